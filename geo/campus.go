@@ -1,0 +1,113 @@
+package geo
+
+import "github.com/paulmach/orb"
+
+// Feature kinds, the values of the "kind" property.
+const (
+	KindBuilding  = "building"
+	KindPathway   = "pathway"
+	KindStructure = "structure"
+	KindEntrance  = "entrance"
+)
+
+// Building roles, the values of a building's "role" property.
+const (
+	RoleMC = "mc" // main cross-connect
+	RoleIC = "ic" // intermediate cross-connect
+)
+
+// Pathway types, statuses and EMI levels.
+const (
+	TypeDuct   = "duct"
+	TypeTunnel = "tunnel"
+	TypeAerial = "aerial"
+	TypeBuried = "buried"
+	TypeTray   = "tray"
+
+	StatusExisting = "existing"
+	StatusProposed = "proposed"
+
+	EMINone = "none"
+	EMILow  = "low"
+	EMIHigh = "high"
+)
+
+// Property keys read from the input; keys that carry a quantity carry its unit.
+const (
+	PropKind       = "kind"
+	PropID         = "id"
+	PropName       = "name"
+	PropRole       = "role"
+	PropRiserM     = "riser_m"
+	PropType       = "type"
+	PropStatus     = "status"
+	PropSpareDucts = "spare_ducts"
+	PropDuctMM     = "duct_mm"
+	PropEMI        = "emi"
+	PropSurface    = "surface"
+	PropGroup      = "group"
+	PropBuilding   = "building"
+)
+
+// DefaultRiserM is the riser length from a building's entrance to its telecom room, in metres,
+// used when a building has no riser_m.
+const DefaultRiserM = 15.0
+
+// DefaultDuctMM is a pathway's inner duct diameter in millimetres when duct_mm is absent.
+const DefaultDuctMM = 100.0
+
+// Source locates a feature in the input: the file name and the 0-based index of the feature
+// in that file's FeatureCollection.
+type Source struct {
+	File  string
+	Index int
+}
+
+// Building is a footprint polygon that may host a cross-connect.
+type Building struct {
+	Source
+	ID        string
+	Name      string
+	Role      string // RoleMC, RoleIC or "" for a served building
+	RiserM    float64
+	Footprint orb.MultiPolygon
+}
+
+// Pathway is one input line along which cable can be placed.
+type Pathway struct {
+	Source
+	ID         string
+	Type       string // TypeDuct …
+	Status     string // StatusExisting or StatusProposed
+	SpareDucts int
+	DuctMM     float64
+	EMI        string // EMINone, EMILow, EMIHigh
+	Surface    string // turf, asphalt, concrete or "" (for proposed work)
+	Group      string // shared-risk group; the pathway's own ID when absent
+	Lines      orb.MultiLineString
+}
+
+// Structure is a maintenance hole, handhole or pull box.
+type Structure struct {
+	Source
+	ID    string
+	Type  string // maintenance-hole, handhole, pull-box
+	Point orb.Point
+}
+
+// Entrance is a building's declared point of entry for backbone cable.
+type Entrance struct {
+	Source
+	ID       string // may be ""
+	Building string
+	Point    orb.Point
+}
+
+// Campus is everything read from one or more GeoJSON files, in input order.
+type Campus struct {
+	Files      []string
+	Buildings  []Building
+	Pathways   []Pathway
+	Structures []Structure
+	Entrances  []Entrance
+}

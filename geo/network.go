@@ -1,0 +1,80 @@
+package geo
+
+import "github.com/paulmach/orb"
+
+// Options tunes how a Campus becomes a Network.
+type Options struct {
+	// SnapM is the distance in metres within which a pathway end joins another pathway
+	// and a structure joins a pathway. Zero means DefaultSnapM.
+	SnapM float64
+	// MaxLateralM is the longest lateral in metres from a building to the nearest pathway
+	// vertex, used when no pathway end meets the footprint. Zero means DefaultMaxLateralM.
+	MaxLateralM float64
+}
+
+// DefaultSnapM and DefaultMaxLateralM are the Options defaults, in metres.
+const (
+	DefaultSnapM       = 0.5
+	DefaultMaxLateralM = 30.0
+)
+
+// Junction kinds.
+const (
+	JunctionNode      = "node"      // where pathways meet, or a pathway end
+	JunctionStructure = "structure" // a maintenance hole, handhole or pull box
+	JunctionEntrance  = "entrance"  // a declared building entrance
+)
+
+// Junction is a vertex of the pathway network.
+type Junction struct {
+	ID            string // a structure's or entrance's id, else "J" + a number assigned in a fixed order
+	Kind          string
+	StructureType string // for JunctionStructure
+	Point         orb.Point
+}
+
+// Span is a piece of one pathway between two junctions with no junction inside it.
+type Span struct {
+	ID         string // PathwayID when the pathway is one span, else PathwayID + "/" + 1-based piece number
+	PathwayID  string
+	From, To   string // junction IDs
+	LengthM    float64
+	Type       string
+	Status     string
+	EMI        string
+	Surface    string
+	Group      string
+	SpareDucts int
+	DuctMM     float64
+	// BendsDeg holds the deflection angle in degrees at each interior vertex, from From to To
+	// (0 is straight on, 90 a right-angle turn).
+	BendsDeg []float64
+	Line     orb.LineString // From → To
+}
+
+// Access says how a building reaches the network.
+type Access struct {
+	Building string
+	Junction string
+	// Via is "entrance" (a declared entrance), "footprint" (a pathway end on the footprint)
+	// or "lateral" (nearest pathway vertex within MaxLateralM).
+	Via      string
+	LateralM float64        // counted lateral length in metres; 0 unless Via is "lateral" or the entrance needed one
+	Lateral  orb.LineString // the lateral's geometry, building side first; empty when LateralM is 0
+}
+
+// Warning is a non-fatal finding, such as two pathways that cross with no junction.
+type Warning struct {
+	File    string
+	Feature string // "#index (id)" of the feature concerned
+	Message string
+}
+
+// Network is the noded pathway network: junctions and spans sorted by ID, one Access per
+// building sorted by building ID, and the warnings met while building it.
+type Network struct {
+	Junctions []Junction
+	Spans     []Span
+	Access    []Access
+	Warnings  []Warning
+}

@@ -1,0 +1,55 @@
+package media
+
+// Link holds the facts about one candidate route for one link leg that the rule engine decides on.
+type Link struct {
+	ID string // the link's id, for messages
+
+	RouteM float64 // along pathways, laterals included, in metres
+	RiserM float64 // risers at both ends, in metres
+	SlackM float64 // slack loops and service coils, in metres
+
+	RateGbps       float64 // required data rate
+	FutureRateGbps float64 // rate the medium must also carry later; 0 when none
+
+	MaxEMI       string   // highest EMI level on the route: "none", "low" or "high"
+	Outdoor      bool     // the route leaves a building (any segment outside)
+	PathwayTypes []string // distinct pathway types on the route, sorted
+
+	// Connection counts from the route: mated connector pairs (two patch panels plus any
+	// cross-connect passed) and splices (entrance transitions and mid-span joins).
+	ConnectorPairs int
+	Splices        int
+
+	Strands int // strands (or, for copper, cables) required before growth
+}
+
+// ChannelM is the full channel length in metres: route, risers and slack.
+func (l Link) ChannelM() float64 { return l.RouteM + l.RiserM + l.SlackM }
+
+// Loss is the loss budget of a fibre link at one wavelength.
+type Loss struct {
+	WavelengthNM int
+	LossDB       float64 // cabled attenuation × length + connections + splices
+	LimitDB      float64 // the application's maximum channel insertion loss
+	MarginDB     float64 // LimitDB − LossDB
+	FieldLimitDB float64 // acceptance limit for a loss test set on the installed link
+}
+
+// Rejection says why one candidate medium was not chosen.
+type Rejection struct {
+	Medium string
+	Rule   string // the id of the rule that excluded it, or "cost" when it lost on price
+	Reason string // e.g. "om4 rejected by reach: 10GBASE-SR reaches 400 m, channel is 612 m"
+}
+
+// Choice is the rule engine's decision for one Link.
+type Choice struct {
+	Feasible     bool
+	Medium       string // catalog medium id, e.g. "os2"
+	Application  string // IEEE 802.3 PHY name, e.g. "10GBASE-LR"
+	Construction string // e.g. "osp-loose-tube"
+	Losses       []Loss // fibre only, one per operating wavelength, ascending
+	CostCents    int64  // installed cost of the medium: cable, terminations, transceivers
+	Reason       string // why this medium, or why no medium fits when !Feasible
+	Rejected     []Rejection
+}
