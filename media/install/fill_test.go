@@ -1,0 +1,317 @@
+package install
+
+import (
+	"errors"
+	"math"
+	"slices"
+	"strings"
+	"testing"
+)
+
+func TestAllowedFillPct(t *testing.T) {
+	t.Parallel()
+	// NFPA 70 Chapter 9 Table 1 (seen): 1 cable 53 %, 2 cables 31 %, over 2 cables 40 %.
+	cases := []struct {
+		name   string
+		cables int
+		want   float64
+	}{
+		{"no cable", 0, 0},
+		{"negative count", -1, 0},
+		{"one cable", 1, 53},
+		{"two cables", 2, 31},
+		{"three cables", 3, 40},
+		{"ten cables", 10, 40},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			if got := AllowedFillPct(tc.cables); got != tc.want {
+				t.Errorf("%s: got %v, want %v", tc.name, got, tc.want)
+			}
+		})
+	}
+}
+
+func TestEMTAreas(t *testing.T) {
+	t.Parallel()
+	const in2PerMM2 = 1 / (25.4 * 25.4)
+	// Internal diameters: NFPA 70 Chapter 9 Table 4, EMT (seen). Areas π/4·d² (computed); the
+	// Table 4 total and 40 % areas in in², rounded to 0.001 (from memory).
+	cases := []struct {
+		name               string
+		idIn               float64
+		totalIn2, pct40In2 float64
+	}{
+		{"EMT 1 in", 1.049, 0.864, 0.346},
+		{"EMT 2 in", 2.067, 3.356, 1.342},
+		{"EMT 3 in", 3.356, 8.846, 3.538},
+		{"EMT 4 in", 4.334, 14.753, 5.901},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			idMM := tc.idIn * MMPerIn
+			// computed: π/4·d² in in², converted with 1 in = 25.4 mm exactly
+			wantMM2 := math.Pi / 4 * tc.idIn * tc.idIn * 25.4 * 25.4
+			if got := DuctAreaMM2(idMM); math.Abs(got-wantMM2) > 1e-9*wantMM2 {
+				t.Errorf("%s: area got %.6f mm², want %.6f mm²", tc.name, got, wantMM2)
+			}
+			if got := DuctAreaMM2(idMM) * in2PerMM2; math.Abs(got-tc.totalIn2) > 0.0006 {
+				t.Errorf("%s: total area got %.4f in², want %.3f in²", tc.name, got, tc.totalIn2)
+			}
+			// Three or more cables: 40 % of the area (Table 1 applied to Table 4).
+			f := CheckFill(idMM, []float64{1, 1, 1})
+			if got := f.AllowedMM2 * in2PerMM2; math.Abs(got-tc.pct40In2) > 0.0006 {
+				t.Errorf("%s: 40 %% area got %.4f in², want %.3f in²", tc.name, got, tc.pct40In2)
+			}
+		})
+	}
+}
+
+// odForPct returns the OD of each of n equal cables filling pct percent of a duct of idMM.
+func odForPct(idMM float64, n int, pct float64) float64 {
+	return idMM * math.Sqrt(pct/100/float64(n))
+}
+
+func TestCheckFill(t *testing.T) {
+	t.Parallel()
+	const id = 4.334 * MMPerIn // EMT 4 in, NFPA 70 Chapter 9 Table 4 (seen)
+	// Limits from NFPA 70 Chapter 9 Table 1 (seen); cases at ±1-2 points around them (computed).
+	cases := []struct {
+		name   string
+		n      int
+		pct    float64
+		wantOK bool
+	}{
+		{"one cable at 50 %", 1, 50, true},
+		{"one cable at 53 %", 1, 52.999, true},
+		{"one cable at 55 %", 1, 55, false},
+		{"two cables at 30 %", 2, 30, true},
+		{"two cables at 32 %", 2, 32, false},
+		{"three cables at 39 %", 3, 39, true},
+		{"three cables at 41 %", 3, 41, false},
+		{"six cables at 39.9 %", 6, 39.9, true},
+		{"six cables at 40.1 %", 6, 40.1, false},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			od := odForPct(id, tc.n, tc.pct)
+			f := CheckFill(id, slices.Repeat([]float64{od}, tc.n))
+			if f.OK != tc.wantOK {
+				t.Errorf("%s: OK got %v, want %v (fill %.3f %% of %.0f %%)", tc.name, f.OK, tc.wantOK, f.Pct, f.AllowedPct)
+			}
+			if math.Abs(f.Pct-tc.pct) > 1e-9 {
+				t.Errorf("%s: Pct got %.12f, want %v", tc.name, f.Pct, tc.pct)
+			}
+			if want := AllowedFillPct(tc.n); f.AllowedPct != want {
+				t.Errorf("%s: AllowedPct got %v, want %v", tc.name, f.AllowedPct, want)
+			}
+			if want := float64(tc.n) * CableAreaMM2(od); math.Abs(f.UsedMM2-want) > 1e-9*want {
+				t.Errorf("%s: UsedMM2 got %v, want %v", tc.name, f.UsedMM2, want)
+			}
+			if f.Err != nil {
+				t.Errorf("%s: unexpected error %v", tc.name, f.Err)
+			}
+		})
+	}
+	t.Run("empty duct", func(t *testing.T) {
+		if f := CheckFill(id, nil); !f.OK || f.Pct != 0 || f.UsedMM2 != 0 {
+			t.Errorf("empty duct: got %+v, want OK and 0 %%", f)
+		}
+	})
+}
+
+func TestJam(t *testing.T) {
+	t.Parallel()
+	const id = 100.0
+	// NFPA 70 Chapter 9 Informative Annex note (seen): three cables with 1.05·D/d in 2.8..3.2
+	// can jam; the 1.05 bend allowance is common practice, no published source.
+	cases := []struct {
+		name      string
+		ratio     float64 // 1.05·D/d
+		spread    float64 // OD of the third cable is d·(1+spread)
+		n         int
+		wantRisk  bool
+		wantRatio bool // whether the jam check applies
+	}{
+		{"ratio 2.9", 2.9, 0, 3, true, true},
+		{"ratio 3.3", 3.3, 0, 3, false, true},
+		{"ratio 2.7", 2.7, 0, 3, false, true},
+		{"ratio 2.8 edge", 2.8, 0, 3, true, true},
+		{"ratio 3.2 edge", 3.2, 0, 3, true, true},
+		{"ratio 3.0 nearly equal", 3.0, 0.03, 3, true, true},
+		{"ratio 3.0 unequal", 3.0, 0.2, 3, false, false},
+		{"ratio 3.0 two cables", 3.0, 0, 2, false, false},
+		{"ratio 3.0 four cables", 3.0, 0, 4, false, false},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			d := JamBendFactor * id / tc.ratio
+			ods := slices.Repeat([]float64{d}, tc.n)
+			if tc.spread != 0 {
+				ods[2] = d * (1 + tc.spread)
+			}
+			f := CheckFill(id, ods)
+			if f.JamRisk != tc.wantRisk {
+				t.Errorf("%s: JamRisk got %v, want %v (ratio %.4f)", tc.name, f.JamRisk, tc.wantRisk, f.JamRatio)
+			}
+			if !tc.wantRatio && f.JamRatio != 0 {
+				t.Errorf("%s: JamRatio got %v, want 0 (check not applicable)", tc.name, f.JamRatio)
+			}
+			if tc.wantRatio && tc.spread == 0 && math.Abs(f.JamRatio-tc.ratio) > 1e-9 {
+				t.Errorf("%s: JamRatio got %v, want %v", tc.name, f.JamRatio, tc.ratio)
+			}
+		})
+	}
+}
+
+func TestFitsDuct(t *testing.T) {
+	t.Parallel()
+	const id = 100.0
+	jamOD := JamBendFactor * id / 2.9 // three of these fill 39.3 % but jam (see TestJam)
+	cases := []struct {
+		name     string
+		od       float64
+		existing []float64
+		want     bool
+	}{
+		{"first cable at 50 %", odForPct(id, 1, 50), nil, true},
+		{"first cable too big", odForPct(id, 1, 60), nil, false},
+		// NFPA 70 Chapter 9 Table 1 (seen): a second cable brings the limit down to 31 %.
+		{"second cable over 31 %", odForPct(id, 1, 16), []float64{odForPct(id, 1, 16)}, false},
+		{"second cable under 31 %", odForPct(id, 1, 15), []float64{odForPct(id, 1, 15)}, true},
+		{"third cable jams", jamOD, []float64{jamOD, jamOD}, false},
+		{"cable wider than duct", 120, nil, false},
+		{"bad OD", math.NaN(), nil, false},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			if got := FitsDuct(id, tc.od, tc.existing); got != tc.want {
+				t.Errorf("%s: got %v, want %v", tc.name, got, tc.want)
+			}
+		})
+	}
+}
+
+func TestDuctBankAssign(t *testing.T) {
+	t.Parallel()
+	const id = 4 * 25.4 // 4 in nominal duct
+	bank := DuctBank{Ducts: 2, IDMM: id}
+	big := odForPct(id, 1, 50)     // alone in a duct
+	small := odForPct(id, 1, 10.5) // three share a duct at 31.5 % (1.05·D/d = 3.24, no jam), four would fill 42 %
+	cases := []struct {
+		name         string
+		ods          []float64
+		wantDuctOf   []int
+		wantUnplaced int
+	}{
+		{"empty", nil, []int{}, 0},
+		{"largest first", []float64{small, big, small}, []int{1, 0, 1}, 0},
+		{"two big fill both ducts", []float64{big, big, small}, []int{0, 1, -1}, 1},
+		{"smalls share the first duct", []float64{small, small, small}, []int{0, 0, 0}, 0},
+		{"fourth small to the second duct", []float64{small, small, small, small}, []int{0, 0, 0, 1}, 0},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			a := bank.Assign(tc.ods)
+			if !slices.Equal(a.DuctOf, tc.wantDuctOf) {
+				t.Errorf("%s: DuctOf got %v, want %v", tc.name, a.DuctOf, tc.wantDuctOf)
+			}
+			if a.Unplaced != tc.wantUnplaced || a.OK != (tc.wantUnplaced == 0) || a.Err != nil {
+				t.Errorf("%s: got Unplaced %d OK %v Err %v, want %d", tc.name, a.Unplaced, a.OK, a.Err, tc.wantUnplaced)
+			}
+			if len(a.Ducts) != bank.Ducts {
+				t.Fatalf("%s: got %d duct fills, want %d", tc.name, len(a.Ducts), bank.Ducts)
+			}
+			placed := 0
+			for d, f := range a.Ducts {
+				if !f.OK || f.JamRisk {
+					t.Errorf("%s: duct %d out of fill: %+v", tc.name, d, f)
+				}
+				placed += len(f.CablesODMM)
+			}
+			if placed != len(tc.ods)-tc.wantUnplaced {
+				t.Errorf("%s: %d cables in ducts, want %d", tc.name, placed, len(tc.ods)-tc.wantUnplaced)
+			}
+		})
+	}
+}
+
+func TestDuctBankOrderIndependent(t *testing.T) {
+	t.Parallel()
+	bank := DuctBank{Ducts: 3, IDMM: 78}
+	ods := []float64{22, 15.5, 30, 15.5, 9, 22, 41, 12}
+	want := bank.Assign(ods)
+	rev := slices.Clone(ods)
+	slices.Reverse(rev)
+	got := bank.Assign(rev)
+	for d := range want.Ducts {
+		if !slices.Equal(got.Ducts[d].CablesODMM, want.Ducts[d].CablesODMM) {
+			t.Errorf("duct %d: got %v, want %v", d, got.Ducts[d].CablesODMM, want.Ducts[d].CablesODMM)
+		}
+	}
+	if got.Unplaced != want.Unplaced {
+		t.Errorf("unplaced: got %d, want %d", got.Unplaced, want.Unplaced)
+	}
+}
+
+func TestDuctBankCapacity(t *testing.T) {
+	t.Parallel()
+	cases := []struct {
+		name string
+		bank DuctBank
+		odMM float64
+		want int
+	}{
+		// computed from NFPA 70 Chapter 9 Table 1: (D/d)² = 4: 1 → 25 %, 2 → 50 % > 31 %
+		{"half-diameter cable", DuctBank{Ducts: 4, IDMM: 100}, 50, 4},
+		// (D/d)² = 16: 2 → 12.5 %, 3 → 18.75 % (1.05·D/d = 4.2, no jam), 6 → 37.5 %, 7 → 43.75 %
+		{"quarter-diameter cable", DuctBank{Ducts: 2, IDMM: 100}, 25, 12},
+		// 1.05·D/d = 2.9: two fit (26 %), the third would fill 39.3 % but jam
+		{"jam-prone cable", DuctBank{Ducts: 3, IDMM: 100}, JamBendFactor * 100 / 2.9, 6},
+		{"no spare duct", DuctBank{Ducts: 0, IDMM: 100}, 25, 0},
+		{"bad OD", DuctBank{Ducts: 2, IDMM: 100}, -1, 0},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			got := tc.bank.MaxCables(tc.odMM)
+			if got != tc.want {
+				t.Fatalf("%s: got %d, want %d", tc.name, got, tc.want)
+			}
+			if tc.want == 0 {
+				return
+			}
+			full := slices.Repeat([]float64{tc.odMM}, got)
+			if !tc.bank.Fits(full[1:], tc.odMM) {
+				t.Errorf("%s: cable %d does not fit, want it to", tc.name, got)
+			}
+			if tc.bank.Fits(full, tc.odMM) {
+				t.Errorf("%s: cable %d fits, want full", tc.name, got+1)
+			}
+		})
+	}
+}
+
+func TestFillBadInput(t *testing.T) {
+	t.Parallel()
+	f := CheckFill(-3, []float64{10, math.NaN(), 0})
+	if f.OK || f.Err == nil || !errors.Is(f.Err, ErrBadInput) {
+		t.Fatalf("bad fill: got OK %v Err %v, want not OK and ErrBadInput", f.OK, f.Err)
+	}
+	for _, want := range []string{"ductIDMM: want finite > 0, got -3", "(and 2 more errors)"} {
+		if !strings.Contains(f.Err.Error(), want) {
+			t.Errorf("bad fill: error %q lacks %q", f.Err, want)
+		}
+	}
+	var list ErrorList
+	if !errors.As(f.Err, &list) || len(list) != 3 || list[1].Item != "cable" || list[1].Index != 1 || list[2].Index != 2 {
+		t.Errorf("bad fill: got %v, want errors for duct, cable 1 and cable 2", list)
+	}
+
+	a := DuctBank{Ducts: -1, IDMM: 100}.Assign([]float64{10, math.Inf(1)})
+	if a.OK || a.Unplaced != 2 || !errors.Is(a.Err, ErrBadInput) || !slices.Equal(a.DuctOf, []int{-1, -1}) {
+		t.Errorf("bad bank: got %+v, want nothing placed and ErrBadInput", a)
+	}
+	if got := a.Err.Error(); !strings.Contains(got, "Ducts: want >= 0, got -1") || !strings.Contains(got, "1 more error") {
+		t.Errorf("bad bank: error %q, want Ducts and one more", got)
+	}
+}
