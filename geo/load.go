@@ -1,0 +1,858 @@
+package geo
+
+import (
+	"bytes"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"io/fs"
+	"math"
+	"os"
+	"strconv"
+	"strings"
+
+	"github.com/paulmach/orb"
+)
+
+// Structure types, the values of a structure's "type" property.
+const (
+	StructureMaintenanceHole = "maintenance-hole"
+	StructureHandhole        = "handhole"
+	StructurePullBox         = "pull-box"
+)
+
+// Surfaces over proposed work, the values of a pathway's "surface" property.
+const (
+	SurfaceTurf     = "turf"
+	SurfaceAsphalt  = "asphalt"
+	SurfaceConcrete = "concrete"
+)
+
+// DefaultSpareDucts is a pathway's number of spare ducts when spare_ducts is absent.
+const DefaultSpareDucts = 1
+
+// MaxSpareDucts is the largest spare_ducts value accepted.
+const MaxSpareDucts = 1000000
+
+// EntrancePrefix starts the junction ID of an entrance that has no id of its own: "E-" + the
+// building ID, then "-2", "-3", … for further id-less entrances of the same building, in input
+// order.
+const EntrancePrefix = "E-"
+
+var (
+	kinds          = []string{KindBuilding, KindPathway, KindStructure, KindEntrance}
+	roles          = []string{RoleMC, RoleIC}
+	pathwayTypes   = []string{TypeDuct, TypeTunnel, TypeAerial, TypeBuried, TypeTray}
+	statuses       = []string{StatusExisting, StatusProposed}
+	emis           = []string{EMINone, EMILow, EMIHigh}
+	surfaces       = []string{SurfaceTurf, SurfaceAsphalt, SurfaceConcrete}
+	structureTypes = []string{StructureMaintenanceHole, StructureHandhole, StructurePullBox}
+)
+
+// problem is an error whose text is msg and which unwraps to one of the sentinels, so that
+// messages read naturally and callers can still test with errors.Is.
+type problem struct {
+	kind error
+	msg  string
+}
+
+func (p *problem) Error() string { return p.msg }
+func (p *problem) Unwrap() error { return p.kind }
+
+func problemf(kind error, format string, args ...any) error {
+	return &problem{kind: kind, msg: fmt.Sprintf(format, args...)}
+}
+
+// Parse reads one GeoJSON FeatureCollection; name is used in error messages only. It returns
+// every problem found as an *ErrorList of *FeatureError, and never panics on bad input.
+//
+// Each feature's "kind" property says what it is; without one, polygons are buildings, lines
+// are pathways and points are structures. A feature's id is its "id" property, or the
+// Feature's own "id" member (string or number) when the property is absent. Ids share one
+// namespace across all kinds. A property whose value is JSON null counts as absent; unknown
+// properties are ignored.
+func Parse(name string, data []byte) (*Campus, error) {
+	l := newLoader()
+	l.parseFile(name, data)
+	return l.finish()
+}
+
+// Load reads and checks the GeoJSON files at paths as one campus: ids must be unique across
+// all files, and an entrance may name a building from another file. Errors are as for Parse,
+// and name the path as given.
+func Load(paths []string) (*Campus, error) {
+	l := newLoader()
+	for _, p := range paths {
+		data, err := os.ReadFile(p)
+		if err != nil {
+			l.fileErr(p, fmt.Errorf("read: %w", unwrapPath(err)))
+			continue
+		}
+		l.parseFile(p, data)
+	}
+	return l.finish()
+}
+
+// LoadFS is Load reading the named files from fsys.
+func LoadFS(fsys fs.FS, names []string) (*Campus, error) {
+	l := newLoader()
+	for _, n := range names {
+		data, err := fs.ReadFile(fsys, n)
+		if err != nil {
+			l.fileErr(n, fmt.Errorf("read: %w", unwrapPath(err)))
+			continue
+		}
+		l.parseFile(n, data)
+	}
+	return l.finish()
+}
+
+func unwrapPath(err error) error {
+	var pe *fs.PathError
+	if errors.As(err, &pe) {
+		return pe.Err
+	}
+	return err
+}
+
+type loader struct {
+	c    Campus
+	errs ErrorList
+	ids  map[string]idUse
+}
+
+// idUse records the first feature that used an id.
+type idUse struct {
+	Source
+	kind string
+}
+
+func newLoader() *loader {
+	return &loader{ids: make(map[string]idUse)}
+}
+
+func (l *loader) fileErr(file string, err error) {
+	l.errs.Add(&FeatureError{File: file, Index: -1, Err: err})
+}
+
+func (l *loader) finish() (*Campus, error) {
+	l.checkEntrances()
+	l.checkMC()
+	if l.errs.Len() > 0 {
+		return nil, &l.errs
+	}
+	c := l.c
+	return &c, nil
+}
+
+// checkEntrances checks that every entrance names a building, and that the ids generated for
+// id-less entrances clash with no declared id.
+func (l *loader) checkEntrances() {
+	for _, e := range l.c.Entrances {
+		if e.Building == "" {
+			continue // already reported as missing
+		}
+		use, ok := l.ids[e.Building]
+		switch {
+		case !ok:
+			l.errs.Add(&FeatureError{File: e.File, Index: e.Index, FeatureID: e.ID, Property: PropBuilding,
+				Err: problemf(ErrUnknownReference, "want the id of a building, got %q, which no feature has", e.Building)})
+		case use.kind != KindBuilding:
+			l.errs.Add(&FeatureError{File: e.File, Index: e.Index, FeatureID: e.ID, Property: PropBuilding,
+				Err: problemf(ErrUnknownReference, "want the id of a building, got %q, which is a %s (%s feature #%d)",
+					e.Building, use.kind, use.File, use.Index)})
+		}
+	}
+	for i, id := range EntranceIDs(l.c.Entrances) {
+		e := l.c.Entrances[i]
+		if e.ID != "" || e.Building == "" {
+			continue
+		}
+		if use, ok := l.ids[id]; ok {
+			l.errs.Add(&FeatureError{File: e.File, Index: e.Index, Property: PropID,
+				Err: problemf(ErrDuplicateID, "this entrance has no id and its generated id %q is used by %s feature #%d; give the entrance an id",
+					id, use.File, use.Index)})
+		}
+	}
+}
+
+func (l *loader) checkMC() {
+	first := -1
+	for i, b := range l.c.Buildings {
+		if b.Role != RoleMC {
+			continue
+		}
+		if first < 0 {
+			first = i
+			continue
+		}
+		f := l.c.Buildings[first]
+		l.errs.Add(&FeatureError{File: b.File, Index: b.Index, FeatureID: b.ID, Property: PropRole,
+			Err: problemf(ErrBadValue, "want at most one %q building in the campus, got a second: %q (%s feature #%d) is already %q",
+				RoleMC, f.ID, f.File, f.Index, RoleMC)})
+	}
+}
+
+// EntranceIDs returns the junction ID of each entrance, in the order given: its own id, or
+// EntrancePrefix + building for the first id-less entrance of a building, then
+// EntrancePrefix + building + "-2", "-3", … for the next ones.
+func EntranceIDs(es []Entrance) []string {
+	ids := make([]string, len(es))
+	seen := make(map[string]int)
+	for i, e := range es {
+		if e.ID != "" {
+			ids[i] = e.ID
+			continue
+		}
+		seen[e.Building]++
+		if n := seen[e.Building]; n > 1 {
+			ids[i] = EntrancePrefix + e.Building + "-" + strconv.Itoa(n)
+		} else {
+			ids[i] = EntrancePrefix + e.Building
+		}
+	}
+	return ids
+}
+
+func (l *loader) parseFile(name string, data []byte) {
+	l.c.Files = append(l.c.Files, name)
+	data = bytes.TrimPrefix(data, []byte("\xef\xbb\xbf"))
+	var raw json.RawMessage
+	if err := json.Unmarshal(data, &raw); err != nil {
+		l.fileErr(name, problemf(ErrNotJSON, "not JSON: %s", jsonErrText(data, err)))
+		return
+	}
+	var top map[string]json.RawMessage
+	if err := json.Unmarshal(data, &top); err != nil || top == nil {
+		l.fileErr(name, problemf(ErrNotCollection, "not a FeatureCollection: want a JSON object, got %s", describeRaw(data)))
+		return
+	}
+	var typ string
+	if t, ok := top["type"]; !ok {
+		l.fileErr(name, problemf(ErrNotCollection, `not a FeatureCollection: missing "type"`))
+		return
+	} else if err := json.Unmarshal(t, &typ); err != nil {
+		l.fileErr(name, problemf(ErrNotCollection, `not a FeatureCollection: want "type" "FeatureCollection", got %s`, describeRaw(t)))
+		return
+	}
+	if typ != "FeatureCollection" {
+		hint := ""
+		if typ == "Feature" || isGeometryType(typ) {
+			hint = "; wrap it in a FeatureCollection"
+		}
+		l.fileErr(name, problemf(ErrNotCollection, `not a FeatureCollection: "type" is %q%s`, typ, hint))
+		return
+	}
+	if _, ok := top["crs"]; ok {
+		l.fileErr(name, problemf(ErrProjected, `has a "crs" member, which RFC 7946 removed: reproject to WGS84 longitude/latitude and drop "crs"`))
+	}
+	var feats []json.RawMessage
+	if f, ok := top["features"]; !ok {
+		l.fileErr(name, problemf(ErrNotCollection, `not a FeatureCollection: missing "features"`))
+		return
+	} else if err := json.Unmarshal(f, &feats); err != nil || feats == nil {
+		l.fileErr(name, problemf(ErrNotCollection, `not a FeatureCollection: want "features" to be an array, got %s`, describeRaw(f)))
+		return
+	}
+	for i, f := range feats {
+		l.parseFeature(Source{File: name, Index: i}, f)
+	}
+}
+
+// jsonErrText describes a JSON syntax error with its line and column (both 1-based).
+func jsonErrText(data []byte, err error) string {
+	var se *json.SyntaxError
+	if errors.As(err, &se) {
+		off := int(se.Offset)
+		if off > len(data) {
+			off = len(data)
+		}
+		line := 1 + bytes.Count(data[:off], []byte("\n"))
+		col := off - bytes.LastIndexByte(data[:off], '\n')
+		return fmt.Sprintf("%s (line %d, column %d)", se.Error(), line, col)
+	}
+	return err.Error()
+}
+
+func isGeometryType(t string) bool {
+	switch t {
+	case "Point", "MultiPoint", "LineString", "MultiLineString", "Polygon", "MultiPolygon", "GeometryCollection":
+		return true
+	}
+	return false
+}
+
+// feature is one feature being read: its source, id and raw properties.
+type feature struct {
+	l     *loader
+	src   Source
+	id    string
+	props map[string]any
+}
+
+func (f *feature) add(prop string, err error) {
+	f.l.errs.Add(&FeatureError{File: f.src.File, Index: f.src.Index, FeatureID: f.id, Property: prop, Err: err})
+}
+
+func (l *loader) parseFeature(src Source, raw json.RawMessage) {
+	f := &feature{l: l, src: src}
+	v, err := decodeAny(raw)
+	obj, ok := v.(map[string]any)
+	if err != nil || !ok {
+		f.add("", problemf(ErrWrongType, "want a Feature object, got %s", describe(v)))
+		return
+	}
+	if t, _ := obj["type"].(string); t != "Feature" {
+		f.add("", problemf(ErrWrongType, `want "type" "Feature", got %s`, describe(obj["type"])))
+		return
+	}
+	switch p := obj["properties"].(type) {
+	case nil:
+		f.props = map[string]any{}
+	case map[string]any:
+		f.props = p
+	default:
+		f.add("", problemf(ErrWrongType, `want "properties" to be an object, got %s`, describe(p)))
+		return
+	}
+
+	idOK := f.readID(obj["id"])
+	geom, gerr := parseGeometry(obj["geometry"])
+
+	kind, hasKind := f.str(PropKind)
+	if hasKind {
+		if !contains(kinds, kind) {
+			f.add(PropKind, badEnum(kinds, kind))
+			return
+		}
+	} else {
+		switch geom.(type) {
+		case orb.Polygon, orb.MultiPolygon:
+			kind = KindBuilding
+		case orb.LineString, orb.MultiLineString:
+			kind = KindPathway
+		case orb.Point:
+			kind = KindStructure
+		default:
+			if gerr != nil {
+				f.add("geometry", gerr)
+				return
+			}
+			f.add("geometry", problemf(ErrBadGeometry, `want Polygon, MultiPolygon, LineString, MultiLineString or Point (or a "kind" property), got %s`, geomName(geom)))
+			return
+		}
+	}
+
+	if idOK {
+		if f.id == "" {
+			if kindNeedsID(kind) {
+				f.add(PropID, problemf(ErrMissingProperty, "missing; every %s needs a unique id", kind))
+			}
+		} else if kind == KindPathway && strings.Contains(f.id, "/") {
+			f.add(PropID, problemf(ErrBadValue, `want a pathway id without "/" (span ids use it), got %q`, f.id))
+		} else if use, dup := l.ids[f.id]; dup {
+			f.add(PropID, problemf(ErrDuplicateID, "duplicate id %q: first used by %s feature #%d", f.id, use.File, use.Index))
+		} else {
+			l.ids[f.id] = idUse{Source: src, kind: kind}
+		}
+	}
+
+	if gerr != nil {
+		f.add("geometry", gerr)
+	}
+	switch kind {
+	case KindBuilding:
+		f.building(geom, gerr == nil)
+	case KindPathway:
+		f.pathway(geom, gerr == nil)
+	case KindStructure:
+		f.structure(geom, gerr == nil)
+	case KindEntrance:
+		f.entrance(geom, gerr == nil)
+	}
+}
+
+func kindNeedsID(kind string) bool { return kind != KindEntrance }
+
+// readID sets f.id from the "id" property or, failing that, the Feature's own id member. It
+// reports false when the id is present but unusable (already reported).
+func (f *feature) readID(member any) bool {
+	if v, ok := f.props[PropID]; ok && v != nil {
+		s, isStr := v.(string)
+		if !isStr || s == "" {
+			f.add(PropID, problemf(ErrWrongType, "want a non-empty string, got %s", describe(v)))
+			return false
+		}
+		f.id = s
+		return true
+	}
+	switch m := member.(type) {
+	case nil:
+	case string:
+		f.id = m
+	case json.Number:
+		f.id = string(m)
+	default:
+		f.add(PropID, problemf(ErrWrongType, `want the Feature "id" member to be a string or number, got %s`, describe(m)))
+		return false
+	}
+	return true
+}
+
+func (f *feature) building(g orb.Geometry, ok bool) {
+	var fp orb.MultiPolygon
+	if ok {
+		switch t := g.(type) {
+		case orb.Polygon:
+			fp = orb.MultiPolygon{t}
+		case orb.MultiPolygon:
+			fp = t
+		default:
+			f.add("geometry", problemf(ErrBadGeometry, "want Polygon or MultiPolygon for a building, got %s", geomName(g)))
+		}
+	}
+	name, _ := f.str(PropName)
+	role, _ := f.enum(PropRole, roles, "")
+	riser := f.num(PropRiserM, DefaultRiserM, false)
+	f.l.c.Buildings = append(f.l.c.Buildings, Building{
+		Source: f.src, ID: f.id, Name: name, Role: role, RiserM: riser, Footprint: fp,
+	})
+}
+
+func (f *feature) pathway(g orb.Geometry, ok bool) {
+	var lines orb.MultiLineString
+	if ok {
+		switch t := g.(type) {
+		case orb.LineString:
+			lines = orb.MultiLineString{t}
+		case orb.MultiLineString:
+			lines = t
+		default:
+			f.add("geometry", problemf(ErrBadGeometry, "want LineString or MultiLineString for a pathway, got %s", geomName(g)))
+		}
+	}
+	typ, _ := f.enum(PropType, pathwayTypes, TypeDuct)
+	status, _ := f.enum(PropStatus, statuses, StatusExisting)
+	emi, _ := f.enum(PropEMI, emis, EMINone)
+	surface, _ := f.enum(PropSurface, surfaces, "")
+	group, has := f.str(PropGroup)
+	if !has || group == "" {
+		group = f.id
+	}
+	f.l.c.Pathways = append(f.l.c.Pathways, Pathway{
+		Source:     f.src,
+		ID:         f.id,
+		Type:       typ,
+		Status:     status,
+		SpareDucts: f.count(PropSpareDucts, DefaultSpareDucts),
+		DuctMM:     f.num(PropDuctMM, DefaultDuctMM, true),
+		EMI:        emi,
+		Surface:    surface,
+		Group:      group,
+		Lines:      lines,
+	})
+}
+
+func (f *feature) point(g orb.Geometry, ok bool, kind string) orb.Point {
+	if !ok {
+		return orb.Point{}
+	}
+	p, isPoint := g.(orb.Point)
+	if !isPoint {
+		f.add("geometry", problemf(ErrBadGeometry, "want Point for a%s %s, got %s", article(kind), kind, geomName(g)))
+	}
+	return p
+}
+
+func article(kind string) string {
+	if strings.HasPrefix(kind, "e") {
+		return "n"
+	}
+	return ""
+}
+
+func (f *feature) structure(g orb.Geometry, ok bool) {
+	p := f.point(g, ok, KindStructure)
+	typ, _ := f.enum(PropType, structureTypes, "")
+	f.l.c.Structures = append(f.l.c.Structures, Structure{Source: f.src, ID: f.id, Type: typ, Point: p})
+}
+
+func (f *feature) entrance(g orb.Geometry, ok bool) {
+	p := f.point(g, ok, KindEntrance)
+	if f.props[PropBuilding] == nil {
+		f.add(PropBuilding, problemf(ErrMissingProperty, "missing; an entrance names the id of its building"))
+	}
+	b, has := f.str(PropBuilding)
+	if has && b == "" {
+		f.add(PropBuilding, problemf(ErrBadValue, "want the id of a building, got an empty string"))
+	}
+	f.l.c.Entrances = append(f.l.c.Entrances, Entrance{Source: f.src, ID: f.id, Building: b, Point: p})
+}
+
+// str returns a string property and whether it is present; a non-string is reported.
+func (f *feature) str(key string) (string, bool) {
+	v, ok := f.props[key]
+	if !ok || v == nil {
+		return "", false
+	}
+	s, isStr := v.(string)
+	if !isStr {
+		f.add(key, problemf(ErrWrongType, "want a string, got %s", describe(v)))
+		return "", false
+	}
+	return s, true
+}
+
+// enum returns a property that must be one of allowed, or def when absent or bad.
+func (f *feature) enum(key string, allowed []string, def string) (string, bool) {
+	v, ok := f.props[key]
+	if !ok || v == nil {
+		return def, false
+	}
+	s, isStr := v.(string)
+	if !isStr || !contains(allowed, s) {
+		f.add(key, badEnum(allowed, v))
+		return def, false
+	}
+	return s, true
+}
+
+func badEnum(allowed []string, got any) error {
+	q := make([]string, len(allowed))
+	for i, a := range allowed {
+		q[i] = strconv.Quote(a)
+	}
+	kind := ErrBadValue
+	if _, isStr := got.(string); !isStr {
+		kind = ErrWrongType
+	}
+	return problemf(kind, "want one of %s, got %s", strings.Join(q, ", "), describe(got))
+}
+
+// num returns a number property >= 0 (> 0 when positive), or def when absent or bad.
+func (f *feature) num(key string, def float64, positive bool) float64 {
+	v, ok := f.props[key]
+	if !ok || v == nil {
+		return def
+	}
+	want := "number >= 0"
+	if positive {
+		want = "number > 0"
+	}
+	n, isNum := v.(json.Number)
+	if !isNum {
+		f.add(key, problemf(ErrWrongType, "want %s, got %s", want, describe(v)))
+		return def
+	}
+	x, err := strconv.ParseFloat(string(n), 64)
+	if err != nil || math.IsInf(x, 0) || x < 0 || (positive && x == 0) {
+		f.add(key, problemf(ErrBadValue, "want %s, got %s", want, n))
+		return def
+	}
+	return x
+}
+
+// count returns an integer property in [0, MaxSpareDucts], or def when absent or bad.
+func (f *feature) count(key string, def int) int {
+	v, ok := f.props[key]
+	if !ok || v == nil {
+		return def
+	}
+	const want = "integer >= 0"
+	n, isNum := v.(json.Number)
+	if !isNum {
+		f.add(key, problemf(ErrWrongType, "want %s, got %s", want, describe(v)))
+		return def
+	}
+	x, err := strconv.ParseFloat(string(n), 64)
+	switch {
+	case err != nil || math.IsInf(x, 0) || x != math.Trunc(x) || x < 0:
+		f.add(key, problemf(ErrBadValue, "want %s, got %s", want, n))
+		return def
+	case x > MaxSpareDucts:
+		f.add(key, problemf(ErrBadValue, "want %s and at most %d, got %s", want, MaxSpareDucts, n))
+		return def
+	}
+	return int(x)
+}
+
+func contains(list []string, s string) bool {
+	for _, x := range list {
+		if x == s {
+			return true
+		}
+	}
+	return false
+}
+
+// decodeAny decodes JSON keeping numbers as json.Number.
+func decodeAny(raw []byte) (any, error) {
+	d := json.NewDecoder(bytes.NewReader(raw))
+	d.UseNumber()
+	var v any
+	if err := d.Decode(&v); err != nil {
+		return nil, err
+	}
+	return v, nil
+}
+
+// describe prints a decoded JSON value for an error message, short.
+func describe(v any) string {
+	switch t := v.(type) {
+	case nil:
+		return "null"
+	case string:
+		if len(t) > 40 {
+			return "string " + strconv.Quote(t[:40]) + "…"
+		}
+		return "string " + strconv.Quote(t)
+	case json.Number:
+		return string(t)
+	case bool:
+		return strconv.FormatBool(t)
+	case []any:
+		return "an array"
+	case map[string]any:
+		return "an object"
+	}
+	return fmt.Sprintf("%T", v)
+}
+
+func describeRaw(raw []byte) string {
+	v, err := decodeAny(raw)
+	if err != nil {
+		return "invalid JSON"
+	}
+	return describe(v)
+}
+
+func geomName(g orb.Geometry) string {
+	switch t := g.(type) {
+	case nil:
+		return "null"
+	case namedGeometry:
+		return t.name
+	default:
+		return g.GeoJSONType()
+	}
+}
+
+// namedGeometry stands for a geometry of a type geo does not read (MultiPoint,
+// GeometryCollection), kept only to name it in messages.
+type namedGeometry struct {
+	orb.Point
+	name string
+}
+
+// parseGeometry decodes a GeoJSON geometry object into an orb geometry, checking every
+// coordinate. A geometry geo has no use for comes back as a namedGeometry.
+func parseGeometry(v any) (orb.Geometry, error) {
+	if v == nil {
+		return nil, problemf(ErrMissingProperty, "missing (null or absent)")
+	}
+	obj, ok := v.(map[string]any)
+	if !ok {
+		return nil, problemf(ErrBadGeometry, "want a geometry object, got %s", describe(v))
+	}
+	typ, ok := obj["type"].(string)
+	if !ok {
+		return nil, problemf(ErrBadGeometry, `want a geometry "type" string, got %s`, describe(obj["type"]))
+	}
+	if !isGeometryType(typ) {
+		return nil, problemf(ErrBadGeometry, "unknown geometry type %q", typ)
+	}
+	coords := obj["coordinates"]
+	if typ == "GeometryCollection" || typ == "MultiPoint" {
+		return namedGeometry{name: typ}, nil
+	}
+	if coords == nil {
+		return nil, problemf(ErrBadGeometry, `%s has no "coordinates"`, typ)
+	}
+	var (
+		g   orb.Geometry
+		err error
+	)
+	switch typ {
+	case "Point":
+		var p orb.Point
+		p, err = position(coords)
+		g = p
+	case "LineString":
+		var ls orb.LineString
+		ls, err = line(coords, "")
+		g = ls
+	case "MultiLineString":
+		var mls orb.MultiLineString
+		mls, err = multiLine(coords)
+		g = mls
+	case "Polygon":
+		var p orb.Polygon
+		p, err = polygon(coords, "")
+		g = p
+	case "MultiPolygon":
+		var mp orb.MultiPolygon
+		mp, err = multiPolygon(coords)
+		g = mp
+	}
+	if err != nil {
+		return nil, err
+	}
+	return g, nil
+}
+
+func position(v any) (orb.Point, error) {
+	arr, ok := v.([]any)
+	if !ok || len(arr) < 2 {
+		return orb.Point{}, problemf(ErrBadGeometry, "want a position [longitude, latitude], got %s", describePos(v))
+	}
+	var p orb.Point
+	for k := 0; k < 2; k++ {
+		n, isNum := arr[k].(json.Number)
+		if !isNum {
+			return orb.Point{}, problemf(ErrBadGeometry, "want a position [longitude, latitude] of numbers, got %s", describePos(v))
+		}
+		x, err := strconv.ParseFloat(string(n), 64)
+		if err != nil || math.IsInf(x, 0) || math.IsNaN(x) {
+			return orb.Point{}, problemf(ErrBadGeometry, "coordinate %s is not a finite number", n)
+		}
+		p[k] = x
+	}
+	if err := checkRange(p); err != nil {
+		return orb.Point{}, err
+	}
+	return p, nil
+}
+
+// projectedM is the magnitude past which a coordinate is taken for a projected one (metres or
+// feet) rather than a slip in longitude/latitude.
+const projectedM = 360.0
+
+func checkRange(p orb.Point) error {
+	x, y := p[0], p[1]
+	switch {
+	case math.Abs(x) > projectedM || math.Abs(y) > projectedM:
+		return problemf(ErrProjected, "got [%s, %s]: coordinates look projected (metres or feet?); reproject to WGS84 longitude/latitude",
+			fmtCoord(x), fmtCoord(y))
+	case math.Abs(x) > 180:
+		return problemf(ErrBadGeometry, "longitude %s outside [-180, 180]", fmtCoord(x))
+	case math.Abs(y) > 90:
+		hint := ""
+		if math.Abs(x) <= 90 {
+			hint = " (are longitude and latitude swapped? GeoJSON puts longitude first)"
+		}
+		return problemf(ErrBadGeometry, "latitude %s outside [-90, 90]%s", fmtCoord(y), hint)
+	}
+	return nil
+}
+
+func fmtCoord(x float64) string { return strconv.FormatFloat(x, 'g', 10, 64) }
+
+func describePos(v any) string {
+	arr, ok := v.([]any)
+	if !ok {
+		return describe(v)
+	}
+	parts := make([]string, 0, len(arr))
+	for i, e := range arr {
+		if i == 3 {
+			parts = append(parts, "…")
+			break
+		}
+		parts = append(parts, describe(e))
+	}
+	return "[" + strings.Join(parts, ", ") + "]"
+}
+
+func positions(v any, what string) ([]orb.Point, error) {
+	arr, ok := v.([]any)
+	if !ok {
+		return nil, problemf(ErrBadGeometry, "%swant an array of positions, got %s", what, describe(v))
+	}
+	pts := make([]orb.Point, 0, len(arr))
+	for _, e := range arr {
+		p, err := position(e)
+		if err != nil {
+			if p, ok := err.(*problem); ok && what != "" {
+				return nil, &problem{kind: p.kind, msg: what + p.msg}
+			}
+			return nil, err
+		}
+		pts = append(pts, p)
+	}
+	return pts, nil
+}
+
+// line reads a LineString's coordinates, dropping repeated consecutive positions; what
+// prefixes messages ("part 2: ").
+func line(v any, what string) (orb.LineString, error) {
+	pts, err := positions(v, what)
+	if err != nil {
+		return nil, err
+	}
+	ls := make(orb.LineString, 0, len(pts))
+	for _, p := range pts {
+		if len(ls) == 0 || ls[len(ls)-1] != p {
+			ls = append(ls, p)
+		}
+	}
+	if len(ls) < 2 {
+		return nil, problemf(ErrBadGeometry, "%swant a line of at least two distinct positions, got %d position(s), %d distinct", what, len(pts), len(ls))
+	}
+	return ls, nil
+}
+
+func multiLine(v any) (orb.MultiLineString, error) {
+	arr, ok := v.([]any)
+	if !ok || len(arr) == 0 {
+		return nil, problemf(ErrBadGeometry, "want an array of at least one line, got %s", describe(v))
+	}
+	mls := make(orb.MultiLineString, 0, len(arr))
+	for i, e := range arr {
+		ls, err := line(e, fmt.Sprintf("line %d: ", i+1))
+		if err != nil {
+			return nil, err
+		}
+		mls = append(mls, ls)
+	}
+	return mls, nil
+}
+
+func polygon(v any, what string) (orb.Polygon, error) {
+	arr, ok := v.([]any)
+	if !ok || len(arr) == 0 {
+		return nil, problemf(ErrBadGeometry, "%swant an array of at least one ring, got %s", what, describe(v))
+	}
+	poly := make(orb.Polygon, 0, len(arr))
+	for i, e := range arr {
+		w := fmt.Sprintf("%sring %d: ", what, i+1)
+		pts, err := positions(e, w)
+		if err != nil {
+			return nil, err
+		}
+		if len(pts) < 4 {
+			return nil, problemf(ErrBadGeometry, "%swant a closed ring of at least 4 positions, got %d", w, len(pts))
+		}
+		if pts[0] != pts[len(pts)-1] {
+			return nil, problemf(ErrBadGeometry, "%sring is not closed: first position [%s, %s], last [%s, %s]", w,
+				fmtCoord(pts[0][0]), fmtCoord(pts[0][1]), fmtCoord(pts[len(pts)-1][0]), fmtCoord(pts[len(pts)-1][1]))
+		}
+		poly = append(poly, orb.Ring(pts))
+	}
+	return poly, nil
+}
+
+func multiPolygon(v any) (orb.MultiPolygon, error) {
+	arr, ok := v.([]any)
+	if !ok || len(arr) == 0 {
+		return nil, problemf(ErrBadGeometry, "want an array of at least one polygon, got %s", describe(v))
+	}
+	mp := make(orb.MultiPolygon, 0, len(arr))
+	for i, e := range arr {
+		p, err := polygon(e, fmt.Sprintf("polygon %d: ", i+1))
+		if err != nil {
+			return nil, err
+		}
+		mp = append(mp, p)
+	}
+	return mp, nil
+}
