@@ -1,0 +1,793 @@
+package media
+
+import (
+	_ "embed"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"regexp"
+	"sort"
+	"strconv"
+	"strings"
+	"sync"
+	"text/tabwriter"
+
+	"go.yaml.in/yaml/v3"
+)
+
+// Medium kinds, the values of Medium.Kind.
+const (
+	KindCopper     = "copper"
+	KindMultimode  = "multimode"
+	KindSinglemode = "singlemode"
+)
+
+// Catalog is the parsed media catalog: media with their constructions, the IEEE 802.3
+// applications that run on them, and the connection loss defaults. Media and Applications
+// keep file order, which is the tie-break order of the rule engine.
+type Catalog struct {
+	File         string
+	MatedPairDB  float64 // loss of one mated connector pair, in dB (TIA-568.3-D maximum by default)
+	SpliceDB     float64 // loss of one splice, in dB
+	Media        []*Medium
+	Applications []*Application
+}
+
+// Medium is one cable medium, e.g. "om4".
+type Medium struct {
+	ID           string
+	Name         string
+	Kind         string // KindCopper, KindMultimode or KindSinglemode
+	JacketColour string // TIA-598 premises jacket colour; "" for copper
+	// Constructions in file order; a fibre medium's attenuation lives on each construction,
+	// because single-mode maxima differ between inside and outside plant.
+	Constructions []*Construction
+	Line          int // line in the catalog file, for messages
+}
+
+// Fibre reports whether m is an optical fibre medium.
+func (m *Medium) Fibre() bool { return m.Kind != KindCopper }
+
+// Construction returns the construction with the given id, or nil.
+func (m *Medium) Construction(id string) *Construction {
+	for _, c := range m.Constructions {
+		if c.ID == id {
+			return c
+		}
+	}
+	return nil
+}
+
+// Attenuation is the maximum cabled attenuation of a construction at one wavelength.
+type Attenuation struct {
+	WavelengthNM int
+	DBPerKm      float64
+}
+
+// Construction is one way a medium is built and listed, e.g. an OFNR riser cable or an
+// outside-plant loose-tube cable.
+type Construction struct {
+	ID           string
+	Name         string
+	Listing      string // NFPA 70 listing (OFNR, OFNP, CMR, CMP), "" when unlisted
+	OutdoorRated bool   // may run outside buildings
+	PlenumRated  bool
+	JacketColour string        // the medium's colour unless the construction overrides it
+	Attenuation  []Attenuation // ascending wavelength; empty for copper
+	// Minimum bend radius as a multiple of the cable's outside diameter, with no load and at
+	// rated pulling tension.
+	BendRadiusUnloadedOD float64
+	BendRadiusLoadedOD   float64
+	MaxPullN             float64 // maximum pulling tension, in newtons
+	Sizes                []Size  // ascending count
+}
+
+// Size is one cable size of a construction. Count is the strand count, or 1 for a 4-pair
+// copper cable.
+type Size struct {
+	Count        int
+	ODMM         float64 // outside diameter, in mm (manufacturer-typical)
+	WeightKgPerM float64 // in kg/m (manufacturer-typical)
+}
+
+// AttenDBPerKm is the maximum cabled attenuation at wavelength nm, in dB/km, and whether the
+// catalog gives one.
+func (c *Construction) AttenDBPerKm(nm int) (float64, bool) {
+	for _, a := range c.Attenuation {
+		if a.WavelengthNM == nm {
+			return a.DBPerKm, true
+		}
+	}
+	return 0, false
+}
+
+// Fit returns the smallest size holding count strands (or copper cables) in one cable and
+// the number of such cables; when no size is large enough it returns the largest size and
+// as many cables of it as needed. A count below 1 is taken as 1.
+func (c *Construction) Fit(count int) (Size, int) {
+	if count < 1 {
+		count = 1
+	}
+	for _, s := range c.Sizes {
+		if s.Count >= count {
+			return s, 1
+		}
+	}
+	big := c.Sizes[len(c.Sizes)-1]
+	return big, (count + big.Count - 1) / big.Count
+}
+
+// BendRadiusMM is the minimum bend radius in mm of cable size s, with no load or at rated
+// pulling tension when loaded.
+func (c *Construction) BendRadiusMM(s Size, loaded bool) float64 {
+	if loaded {
+		return c.BendRadiusLoadedOD * s.ODMM
+	}
+	return c.BendRadiusUnloadedOD * s.ODMM
+}
+
+// Application is one IEEE 802.3 PHY and where it runs.
+type Application struct {
+	Name          string // e.g. "10GBASE-SR"
+	Clause        string // IEEE 802.3 clause, e.g. "52"
+	RateGbps      float64
+	WavelengthsNM []int // operating wavelengths, ascending; empty for copper
+	Strands       int   // fibres used (2 duplex, 8 parallel), or 4-pair cables for copper
+	Transceiver   string
+	Reach         []Reach // in file order
+	Line          int     // line in the catalog file, for messages
+}
+
+// Reach is an application's operating range and channel insertion loss on one medium.
+type Reach struct {
+	Medium    string
+	RangeM    float64 // operating range, in metres
+	MaxLossDB float64 // maximum channel insertion loss, in dB; 0 for copper
+}
+
+// On returns the application's reach on medium, and whether it runs on it at all.
+func (a *Application) On(medium string) (Reach, bool) {
+	for _, r := range a.Reach {
+		if r.Medium == medium {
+			return r, true
+		}
+	}
+	return Reach{}, false
+}
+
+// Medium returns the medium with the given id, or nil.
+func (c *Catalog) Medium(id string) *Medium {
+	for _, m := range c.Media {
+		if m.ID == id {
+			return m
+		}
+	}
+	return nil
+}
+
+// Application returns the application with the given name, or nil.
+func (c *Catalog) Application(name string) *Application {
+	for _, a := range c.Applications {
+		if a.Name == name {
+			return a
+		}
+	}
+	return nil
+}
+
+// Rates returns the distinct application rates in Gbit/s, ascending.
+func (c *Catalog) Rates() []float64 {
+	var rates []float64
+	for _, a := range c.Applications {
+		if !containsRate(rates, a.RateGbps) {
+			rates = append(rates, a.RateGbps)
+		}
+	}
+	sort.Float64s(rates)
+	return rates
+}
+
+func containsRate(rates []float64, r float64) bool {
+	for _, x := range rates {
+		if x == r {
+			return true
+		}
+	}
+	return false
+}
+
+// FormatRate writes a rate in Gbit/s the way ParseRate reads it, e.g. "10G" or "2.5G".
+func FormatRate(rateGbps float64) string {
+	return strconv.FormatFloat(rateGbps, 'f', -1, 64) + "G"
+}
+
+func rateList(rates []float64) string {
+	s := make([]string, len(rates))
+	for i, r := range rates {
+		s[i] = FormatRate(r)
+	}
+	return strings.Join(s, ", ")
+}
+
+var rateRE = regexp.MustCompile(`^([0-9]+(?:\.[0-9]+)?)\s*(?:[gG](?:b(?:ps|it/s|/s)?)?)?$`)
+
+// ParseRate reads a data rate such as "10G", "100G" or "2.5G" (a bare number is Gbit/s) and
+// returns it in Gbit/s. It is an error when no application of c runs at that rate; the
+// message lists the rates c offers.
+func (c *Catalog) ParseRate(s string) (float64, error) {
+	m := rateRE.FindStringSubmatch(strings.TrimSpace(s))
+	if m == nil {
+		return 0, fmt.Errorf("%w: rate %q: want a rate such as 10G; the catalog has %s", ErrBadValue, s, rateList(c.Rates()))
+	}
+	r, _ := strconv.ParseFloat(m[1], 64)
+	if !containsRate(c.Rates(), r) {
+		return 0, fmt.Errorf("%w: rate %q: no application runs at %s; the catalog has %s", ErrBadValue, s, FormatRate(r), rateList(c.Rates()))
+	}
+	return r, nil
+}
+
+// ParseRate reads a rate against the default catalog; see Catalog.ParseRate.
+func ParseRate(s string) (float64, error) { return defaultCatalog().ParseRate(s) }
+
+//go:embed catalog.yaml
+var catalogYAML []byte
+
+// DefaultCatalogFile is the name the embedded catalog goes by in messages.
+const DefaultCatalogFile = "catalog.yaml (embedded)"
+
+var sharedCatalog = mustOnce(func() (*Catalog, error) { return ParseCatalog(DefaultCatalogFile, catalogYAML) })
+
+func defaultCatalog() *Catalog { return sharedCatalog() }
+
+// DefaultCatalog returns a fresh copy of the embedded catalog, which the caller may change.
+// It panics if the embedded file is invalid, which the package tests rule out.
+func DefaultCatalog() *Catalog {
+	c, err := ParseCatalog(DefaultCatalogFile, catalogYAML)
+	if err != nil {
+		panic("media: embedded catalog: " + err.Error())
+	}
+	return c
+}
+
+// mustOnce runs f once, on first use, and panics with its error: for embedded files only.
+func mustOnce[T any](f func() (T, error)) func() T {
+	var (
+		once sync.Once
+		v    T
+	)
+	return func() T {
+		once.Do(func() {
+			var err error
+			if v, err = f(); err != nil {
+				panic("media: embedded file: " + err.Error())
+			}
+		})
+		return v
+	}
+}
+
+// LoadCatalog reads and validates a catalog file.
+func LoadCatalog(path string) (*Catalog, error) {
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return nil, fmt.Errorf("read catalog: %w", err)
+	}
+	return ParseCatalog(path, data)
+}
+
+// The catalog file as written; see catalog.yaml for the meaning of each key.
+type catalogFile struct {
+	Pos          pos               `yaml:"-"`
+	Shared       yaml.Node         `yaml:"shared"`
+	Connections  connectionsYAML   `yaml:"connections"`
+	Media        []mediumYAML      `yaml:"media" item:"medium"`
+	Applications []applicationYAML `yaml:"applications" item:"application"`
+}
+
+type connectionsYAML struct {
+	Pos         pos     `yaml:"-"`
+	MatedPairDB float64 `yaml:"mated_pair_db"`
+	SpliceDB    float64 `yaml:"splice_db"`
+}
+
+type mediumYAML struct {
+	Pos           pos                `yaml:"-"`
+	ID            string             `yaml:"id"`
+	Name          string             `yaml:"name"`
+	Kind          string             `yaml:"kind"`
+	JacketColour  string             `yaml:"jacket_colour"`
+	Attenuation   map[int]float64    `yaml:"attenuation_db_per_km"`
+	Constructions []constructionYAML `yaml:"constructions" item:"construction"`
+}
+
+type constructionYAML struct {
+	Pos                  pos             `yaml:"-"`
+	ID                   string          `yaml:"id"`
+	Name                 string          `yaml:"name"`
+	Listing              string          `yaml:"listing"`
+	OutdoorRated         bool            `yaml:"outdoor_rated"`
+	PlenumRated          bool            `yaml:"plenum_rated"`
+	JacketColour         string          `yaml:"jacket_colour"`
+	Attenuation          map[int]float64 `yaml:"attenuation_db_per_km"`
+	BendRadiusUnloadedOD float64         `yaml:"bend_radius_unloaded_od"`
+	BendRadiusLoadedOD   float64         `yaml:"bend_radius_loaded_od"`
+	MaxPullN             float64         `yaml:"max_pull_n"`
+	Sizes                []sizeYAML      `yaml:"sizes"`
+}
+
+type sizeYAML struct {
+	Pos          pos     `yaml:"-"`
+	Count        int     `yaml:"count"`
+	ODMM         float64 `yaml:"od_mm"`
+	WeightKgPerM float64 `yaml:"weight_kg_per_m"`
+}
+
+type applicationYAML struct {
+	Pos           pos         `yaml:"-"`
+	Name          string      `yaml:"name"`
+	Clause        string      `yaml:"clause"`
+	RateGbps      float64     `yaml:"rate_gbps"`
+	WavelengthsNM []int       `yaml:"wavelengths_nm"`
+	Strands       int         `yaml:"strands"`
+	Transceiver   string      `yaml:"transceiver"`
+	Media         []reachYAML `yaml:"media" item:"on"`
+}
+
+type reachYAML struct {
+	Pos       pos     `yaml:"-"`
+	Medium    string  `yaml:"medium"`
+	RangeM    float64 `yaml:"range_m"`
+	MaxLossDB float64 `yaml:"max_loss_db"`
+}
+
+var idRE = regexp.MustCompile(`^[a-z0-9][a-z0-9-]*$`)
+
+// checker reports validation problems of one file at a key's position.
+type checker struct {
+	file string
+	errs *ErrorList
+}
+
+func (c checker) bad(p pos, item, field string, sentinel error, format string, args ...any) {
+	line, col := p.at(lastKey(field))
+	c.badAt(line, col, item, field, sentinel, format, args...)
+}
+
+// badAt reports a problem at a position, unless the decoder already reported one for the
+// same item and field (a value of the wrong type is not also reported as out of range).
+func (c checker) badAt(line, col int, item, field string, sentinel error, format string, args ...any) {
+	if c.reported(item, field) {
+		return
+	}
+	c.errs.Add(&FileError{File: c.file, Line: line, Col: col, Item: item, Field: field,
+		Err: fmt.Errorf("%w: "+format, append([]any{sentinel}, args...)...)})
+}
+
+func (c checker) reported(item, field string) bool {
+	for _, e := range c.errs.Errs {
+		if fe, ok := e.(*FileError); ok && fe.File == c.file && fe.Item == item && fe.Field == field {
+			return true
+		}
+	}
+	return false
+}
+
+// lastKey is the key of a field path's last step: "sizes[2].od_mm" → "od_mm".
+func lastKey(field string) string {
+	if i := strings.LastIndexByte(field, '.'); i >= 0 {
+		field = field[i+1:]
+	}
+	if i := strings.IndexByte(field, '['); i >= 0 {
+		field = field[:i]
+	}
+	return field
+}
+
+// require reports key missing from the mapping at p.
+func (c checker) require(p pos, item string, keys ...string) bool {
+	ok := true
+	for _, k := range keys {
+		if !p.has(k) {
+			ok = false
+			if c.reported(item, k) {
+				continue
+			}
+			c.errs.Add(&FileError{File: c.file, Line: p.Line, Col: p.Col, Item: item, Field: k, Err: ErrMissingField})
+		}
+	}
+	return ok
+}
+
+// ParseCatalog reads a catalog from data; name is the file name used in messages. Every
+// problem is reported at once in an *ErrorList of *FileError, each naming the file, line,
+// item and field.
+func ParseCatalog(name string, data []byte) (*Catalog, error) {
+	var errs ErrorList
+	var f catalogFile
+	d := decoder{file: name, errs: &errs}
+	d.parseYAML(data, &f)
+	if errs.Len() > 0 && f.Pos.Keys == nil {
+		return nil, errs.Err()
+	}
+	c := checker{file: name, errs: &errs}
+	cat := &Catalog{File: name, MatedPairDB: f.Connections.MatedPairDB, SpliceDB: f.Connections.SpliceDB}
+	c.require(f.Pos, "", "connections", "media", "applications")
+	if f.Pos.has("connections") && c.require(f.Connections.Pos, "connections", "mated_pair_db", "splice_db") {
+		if cat.MatedPairDB < 0 {
+			c.bad(f.Connections.Pos, "connections", "mated_pair_db", ErrBadValue, "want dB >= 0, got %g", cat.MatedPairDB)
+		}
+		if cat.SpliceDB < 0 {
+			c.bad(f.Connections.Pos, "connections", "splice_db", ErrBadValue, "want dB >= 0, got %g", cat.SpliceDB)
+		}
+	}
+	seen := map[string]int{}
+	declared := map[string]bool{} // media ids in the file, valid or not, so that one bad medium is not also reported by every application on it
+	for _, my := range f.Media {
+		declared[my.ID] = true
+	}
+	for i, my := range f.Media {
+		item := "medium " + itemLabel(my.ID, i)
+		m := c.medium(my, item)
+		if m == nil {
+			continue
+		}
+		if first, dup := seen[m.ID]; dup {
+			c.bad(my.Pos, item, "id", ErrDuplicateID, "medium %q already defined at line %d", m.ID, first)
+			continue
+		}
+		seen[m.ID] = my.Pos.Line
+		cat.Media = append(cat.Media, m)
+	}
+	seenApp := map[string]int{}
+	for i, ay := range f.Applications {
+		item := "application " + itemLabel(ay.Name, i)
+		a := c.application(ay, item, cat, declared)
+		if a == nil {
+			continue
+		}
+		if first, dup := seenApp[a.Name]; dup {
+			c.bad(ay.Pos, item, "name", ErrDuplicateID, "application %q already defined at line %d", a.Name, first)
+			continue
+		}
+		seenApp[a.Name] = ay.Pos.Line
+		cat.Applications = append(cat.Applications, a)
+	}
+	if err := errs.Err(); err != nil {
+		return nil, err
+	}
+	return cat, nil
+}
+
+func itemLabel(id string, i int) string {
+	if id == "" {
+		return fmt.Sprintf("#%d", i)
+	}
+	return strconv.Quote(id)
+}
+
+func (c checker) medium(my mediumYAML, item string) *Medium {
+	if !c.require(my.Pos, item, "id", "name", "kind", "constructions") {
+		return nil
+	}
+	ok := true
+	if !idRE.MatchString(my.ID) {
+		c.bad(my.Pos, item, "id", ErrBadValue, "want lower-case letters, digits and '-', got %q", my.ID)
+		ok = false
+	}
+	m := &Medium{ID: my.ID, Name: my.Name, Kind: my.Kind, JacketColour: my.JacketColour, Line: my.Pos.Line}
+	switch my.Kind {
+	case KindCopper:
+		if len(my.Attenuation) > 0 {
+			c.bad(my.Pos, item, "attenuation_db_per_km", ErrBadValue, "copper has no optical attenuation; remove the key")
+			ok = false
+		}
+	case KindMultimode, KindSinglemode:
+		if !my.Pos.has("jacket_colour") {
+			c.require(my.Pos, item, "jacket_colour")
+			ok = false
+		}
+	default:
+		c.bad(my.Pos, item, "kind", ErrBadValue, "want %s, %s or %s, got %q", KindCopper, KindMultimode, KindSinglemode, my.Kind)
+		return nil
+	}
+	if !c.attenuation(my.Pos, item, "attenuation_db_per_km", my.Attenuation) {
+		ok = false
+	}
+	seen := map[string]bool{}
+	for j, cy := range my.Constructions {
+		citem := item + " construction " + itemLabel(cy.ID, j)
+		k := c.construction(cy, citem, m, my.Attenuation)
+		if k == nil {
+			ok = false
+			continue
+		}
+		if seen[k.ID] {
+			c.bad(cy.Pos, citem, "id", ErrDuplicateID, "construction %q repeated in medium %q", k.ID, m.ID)
+			ok = false
+			continue
+		}
+		seen[k.ID] = true
+		m.Constructions = append(m.Constructions, k)
+	}
+	if len(my.Constructions) == 0 {
+		c.bad(my.Pos, item, "constructions", ErrMissingField, "want at least one construction")
+		ok = false
+	}
+	if !ok {
+		return nil
+	}
+	return m
+}
+
+// attenuation checks a wavelength → dB/km map.
+func (c checker) attenuation(p pos, item, field string, a map[int]float64) bool {
+	ok := true
+	for _, nm := range sortedInts(a) {
+		line, col := nestedLine(p, field, nm)
+		sub := fmt.Sprintf("%s.%d", field, nm)
+		if nm <= 0 {
+			c.badAt(line, col, item, sub, ErrBadValue, "want a wavelength in nm > 0, got %d", nm)
+			ok = false
+		}
+		if v := a[nm]; v < 0 {
+			c.badAt(line, col, item, sub, ErrBadValue, "want attenuation in dB/km >= 0, got %g", v)
+			ok = false
+		}
+	}
+	return ok
+}
+
+// nestedLine is the position of key sub inside the map held by key: the decoder records
+// only a mapping's own keys, so nested entries are found on the key's value node.
+func nestedLine(p pos, key string, sub int) (int, int) {
+	k, ok := p.Keys[key]
+	if !ok || k.Value == nil {
+		return p.Line, p.Col
+	}
+	n := resolve(k.Value)
+	for i := 0; i+1 < len(n.Content); i += 2 {
+		if n.Content[i].Value == strconv.Itoa(sub) {
+			return n.Content[i].Line, n.Content[i].Column
+		}
+	}
+	return k.Line, k.Col
+}
+
+func sortedInts[V any](m map[int]V) []int {
+	keys := make([]int, 0, len(m))
+	for k := range m {
+		keys = append(keys, k)
+	}
+	sort.Ints(keys)
+	return keys
+}
+
+func (c checker) construction(cy constructionYAML, item string, m *Medium, mediumAtten map[int]float64) *Construction {
+	if !c.require(cy.Pos, item, "id", "name", "outdoor_rated", "bend_radius_unloaded_od", "bend_radius_loaded_od", "max_pull_n", "sizes") {
+		return nil
+	}
+	ok := true
+	if !idRE.MatchString(cy.ID) {
+		c.bad(cy.Pos, item, "id", ErrBadValue, "want lower-case letters, digits and '-', got %q", cy.ID)
+		ok = false
+	}
+	k := &Construction{ID: cy.ID, Name: cy.Name, Listing: cy.Listing, OutdoorRated: cy.OutdoorRated,
+		PlenumRated: cy.PlenumRated, JacketColour: m.JacketColour,
+		BendRadiusUnloadedOD: cy.BendRadiusUnloadedOD, BendRadiusLoadedOD: cy.BendRadiusLoadedOD, MaxPullN: cy.MaxPullN}
+	if cy.Pos.has("jacket_colour") {
+		k.JacketColour = cy.JacketColour
+	}
+	if m.Kind == KindCopper && len(cy.Attenuation) > 0 {
+		c.bad(cy.Pos, item, "attenuation_db_per_km", ErrBadValue, "copper has no optical attenuation; remove the key")
+		ok = false
+	}
+	if !c.attenuation(cy.Pos, item, "attenuation_db_per_km", cy.Attenuation) {
+		ok = false
+	}
+	merged := map[int]float64{}
+	for nm, v := range mediumAtten {
+		merged[nm] = v
+	}
+	for nm, v := range cy.Attenuation {
+		merged[nm] = v
+	}
+	for _, nm := range sortedInts(merged) {
+		k.Attenuation = append(k.Attenuation, Attenuation{WavelengthNM: nm, DBPerKm: merged[nm]})
+	}
+	if m.Kind != KindCopper && len(k.Attenuation) == 0 {
+		c.bad(cy.Pos, item, "attenuation_db_per_km", ErrMissingField, "a fibre construction needs attenuation at one wavelength at least, on it or on its medium")
+		ok = false
+	}
+	for _, f := range []struct {
+		key string
+		v   float64
+	}{{"bend_radius_unloaded_od", cy.BendRadiusUnloadedOD}, {"bend_radius_loaded_od", cy.BendRadiusLoadedOD}, {"max_pull_n", cy.MaxPullN}} {
+		if f.v <= 0 {
+			c.bad(cy.Pos, item, f.key, ErrBadValue, "want a number > 0, got %g", f.v)
+			ok = false
+		}
+	}
+	if len(cy.Sizes) == 0 {
+		c.bad(cy.Pos, item, "sizes", ErrMissingField, "want at least one size")
+		ok = false
+	}
+	counts := map[int]bool{}
+	for j, sy := range cy.Sizes {
+		field := fmt.Sprintf("sizes[%d]", j)
+		if !c.require(sy.Pos, item, "count", "od_mm", "weight_kg_per_m") {
+			ok = false
+			continue
+		}
+		if sy.Count <= 0 || counts[sy.Count] {
+			c.bad(sy.Pos, item, field+".count", ErrBadValue, "want a count > 0 not listed before, got %d", sy.Count)
+			ok = false
+		}
+		if m.Kind == KindCopper && sy.Count != 1 {
+			c.bad(sy.Pos, item, field+".count", ErrBadValue, "copper is listed per 4-pair cable: want count 1, got %d", sy.Count)
+			ok = false
+		}
+		counts[sy.Count] = true
+		if sy.ODMM <= 0 {
+			c.bad(sy.Pos, item, field+".od_mm", ErrBadValue, "want mm > 0, got %g", sy.ODMM)
+			ok = false
+		}
+		if sy.WeightKgPerM <= 0 {
+			c.bad(sy.Pos, item, field+".weight_kg_per_m", ErrBadValue, "want kg/m > 0, got %g", sy.WeightKgPerM)
+			ok = false
+		}
+		k.Sizes = append(k.Sizes, Size{Count: sy.Count, ODMM: sy.ODMM, WeightKgPerM: sy.WeightKgPerM})
+	}
+	sort.Slice(k.Sizes, func(i, j int) bool { return k.Sizes[i].Count < k.Sizes[j].Count })
+	if !ok {
+		return nil
+	}
+	return k
+}
+
+func (c checker) application(ay applicationYAML, item string, cat *Catalog, declared map[string]bool) *Application {
+	if !c.require(ay.Pos, item, "name", "rate_gbps", "strands", "transceiver", "media") {
+		return nil
+	}
+	ok := true
+	a := &Application{Name: ay.Name, Clause: ay.Clause, RateGbps: ay.RateGbps, Strands: ay.Strands,
+		Transceiver: ay.Transceiver, Line: ay.Pos.Line}
+	if ay.RateGbps <= 0 {
+		c.bad(ay.Pos, item, "rate_gbps", ErrBadValue, "want Gbit/s > 0, got %g", ay.RateGbps)
+		ok = false
+	}
+	if ay.Strands <= 0 {
+		c.bad(ay.Pos, item, "strands", ErrBadValue, "want a count > 0, got %d", ay.Strands)
+		ok = false
+	}
+	if strings.TrimSpace(ay.Transceiver) == "" {
+		c.bad(ay.Pos, item, "transceiver", ErrBadValue, "want a price key, got an empty string")
+		ok = false
+	}
+	for j, nm := range ay.WavelengthsNM {
+		if nm <= 0 {
+			c.bad(ay.Pos, item, fmt.Sprintf("wavelengths_nm[%d]", j), ErrBadValue, "want nm > 0, got %d", nm)
+			ok = false
+		}
+	}
+	a.WavelengthsNM = append([]int(nil), ay.WavelengthsNM...)
+	sort.Ints(a.WavelengthsNM)
+	if len(ay.Media) == 0 {
+		c.bad(ay.Pos, item, "media", ErrMissingField, "want the media it runs on")
+		ok = false
+	}
+	kinds := map[bool]bool{}
+	seen := map[string]bool{}
+	for j, ry := range ay.Media {
+		ritem := item + " on " + itemLabel(ry.Medium, j)
+		if !c.require(ry.Pos, ritem, "medium", "range_m") {
+			ok = false
+			continue
+		}
+		m := cat.Medium(ry.Medium)
+		if m == nil {
+			if !declared[ry.Medium] {
+				c.bad(ry.Pos, ritem, "medium", ErrUnknownReference, "no medium %q in the catalog", ry.Medium)
+			}
+			ok = false
+			continue
+		}
+		if seen[m.ID] {
+			c.bad(ry.Pos, ritem, "medium", ErrDuplicateID, "medium %q listed twice", m.ID)
+			ok = false
+			continue
+		}
+		seen[m.ID] = true
+		kinds[m.Fibre()] = true
+		if ry.RangeM <= 0 {
+			c.bad(ry.Pos, ritem, "range_m", ErrBadValue, "want metres > 0, got %g", ry.RangeM)
+			ok = false
+		}
+		if m.Fibre() {
+			if !c.require(ry.Pos, ritem, "max_loss_db") {
+				ok = false
+			} else if ry.MaxLossDB <= 0 {
+				c.bad(ry.Pos, ritem, "max_loss_db", ErrBadValue, "want dB > 0, got %g", ry.MaxLossDB)
+				ok = false
+			}
+			if len(a.WavelengthsNM) == 0 {
+				c.bad(ay.Pos, item, "wavelengths_nm", ErrMissingField, "an application on fibre %q needs its operating wavelengths", m.ID)
+				ok = false
+			}
+			for _, nm := range a.WavelengthsNM {
+				for _, k := range m.Constructions {
+					if _, has := k.AttenDBPerKm(nm); !has {
+						c.bad(ay.Pos, item, "wavelengths_nm", ErrUnknownReference, "medium %q construction %q has no attenuation at %d nm", m.ID, k.ID, nm)
+						ok = false
+					}
+				}
+			}
+		} else if ry.Pos.has("max_loss_db") {
+			c.bad(ry.Pos, ritem, "max_loss_db", ErrBadValue, "copper has no optical loss budget; remove the key")
+			ok = false
+		}
+		a.Reach = append(a.Reach, Reach{Medium: m.ID, RangeM: ry.RangeM, MaxLossDB: ry.MaxLossDB})
+	}
+	if len(kinds) > 1 {
+		c.bad(ay.Pos, item, "media", ErrBadValue, "an application runs on copper or on fibre, not both")
+		ok = false
+	}
+	if kinds[false] && len(a.WavelengthsNM) > 0 {
+		c.bad(ay.Pos, item, "wavelengths_nm", ErrBadValue, "a copper application has no wavelength; remove the key")
+		ok = false
+	}
+	if !ok {
+		return nil
+	}
+	return a
+}
+
+// Table writes the reach-and-loss table: one row per application and medium, in catalog
+// order, with rate, operating wavelengths, fibres or cables used, operating range in metres,
+// maximum channel insertion loss in dB and the medium's TIA-598 jacket colour. rateGbps 0
+// lists every rate; any other rate must be one the catalog offers.
+func (c *Catalog) Table(w io.Writer, rateGbps float64) error {
+	if rateGbps != 0 && !containsRate(c.Rates(), rateGbps) {
+		return fmt.Errorf("%w: no application runs at %s; the catalog has %s", ErrBadValue, FormatRate(rateGbps), rateList(c.Rates()))
+	}
+	tw := tabwriter.NewWriter(w, 0, 8, 2, ' ', 0)
+	fmt.Fprintln(tw, "application\trate\twavelength nm\tuses\tmedium\trange m\tmax channel loss dB\tjacket")
+	for _, a := range c.Applications {
+		if rateGbps != 0 && a.RateGbps != rateGbps {
+			continue
+		}
+		for _, m := range c.Media {
+			r, ok := a.On(m.ID)
+			if !ok {
+				continue
+			}
+			wl, uses, loss, jacket := "-", fmt.Sprintf("%d x 4-pair cable", a.Strands), "-", "-"
+			if m.Fibre() {
+				wl = joinInts(a.WavelengthsNM, "/")
+				uses = fmt.Sprintf("%d fibres", a.Strands)
+				loss = fmt.Sprintf("%.2f", r.MaxLossDB)
+			}
+			if m.JacketColour != "" {
+				jacket = m.JacketColour
+			}
+			fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%.0f\t%s\t%s\n", a.Name, FormatRate(a.RateGbps), wl, uses, m.ID, r.RangeM, loss, jacket)
+		}
+	}
+	if err := tw.Flush(); err != nil {
+		return err
+	}
+	_, err := fmt.Fprintf(w, "connections: mated pair %.2f dB, splice %.2f dB; ranges and losses per IEEE 802.3, see %s\n",
+		c.MatedPairDB, c.SpliceDB, c.File)
+	return err
+}
+
+func joinInts(v []int, sep string) string {
+	s := make([]string, len(v))
+	for i, x := range v {
+		s[i] = strconv.Itoa(x)
+	}
+	return strings.Join(s, sep)
+}
+
+// finite reports whether x is a usable number.
+func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
