@@ -74,8 +74,9 @@ type Plan struct {
 //     first cut into the fewest equal parts that can (at most MaxPiecesPerStep).
 //   - Pull points then go on step boundaries (and those cuts), chosen to use the fewest added
 //     pull points; among those, the ones that make the highest pulling tension of any section
-//     lowest; among those, the earliest along the run. This is exact, by dynamic programming
-//     over the boundaries.
+//     lowest (exact, by dynamic programming over the boundaries). Remaining ties are broken
+//     deterministically: the last section starts as early as it can, and the stretch before
+//     it is planned the same way on its own.
 //   - A step that no pull point can bring within the spec (a single bend over the bend budget,
 //     over the tension rating or over the sidewall limit, or a straight needing more than
 //     MaxPiecesPerStep parts) becomes a section of its own, flagged not WithinRating with its
