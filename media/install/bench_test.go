@@ -1,0 +1,57 @@
+package install
+
+import (
+	"fmt"
+	"sync"
+	"testing"
+)
+
+var (
+	benchOnce sync.Once
+	benchRuns map[string][]Step
+)
+
+// benchRun is n straights of 150 m, every other one followed by a 45° bend; incline gives the
+// straights alternating slopes, which turns off the level-run shortcut in Sections.
+func benchRun(n int, incline bool) []Step {
+	var run []Step
+	for i := 0; i < n; i++ {
+		s := Step{Kind: KindStraight, LengthM: 150}
+		if incline {
+			s.InclineDeg = float64(i%5) - 2
+		}
+		run = append(run, s)
+		if i%2 == 1 {
+			run = append(run, Step{Kind: KindBend, AngleDeg: 45, RadiusM: 1})
+		}
+	}
+	return run
+}
+
+func BenchmarkSections(b *testing.B) {
+	benchOnce.Do(func() {
+		benchRuns = map[string][]Step{}
+		for _, n := range []int{20, 200} {
+			benchRuns[fmt.Sprintf("level_%d", n)] = benchRun(n, false)
+			benchRuns[fmt.Sprintf("incline_%d", n)] = benchRun(n, true)
+		}
+	})
+	for _, name := range []string{"level_20", "level_200", "incline_20", "incline_200"} {
+		run := benchRuns[name]
+		b.Run(name, func(b *testing.B) {
+			for b.Loop() {
+				if _, err := Sections(run, nil, siSpec); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}
+
+func BenchmarkDuctBankAssign(b *testing.B) {
+	bank := DuctBank{Ducts: 6, IDMM: 102}
+	ods := []float64{22, 15.5, 30, 15.5, 9, 22, 41, 12, 18, 18, 25, 9}
+	for b.Loop() {
+		bank.Assign(ods)
+	}
+}
