@@ -1,0 +1,438 @@
+//go:build ignore
+
+// Command generate writes testdata/demo/campus.geojson, the invented demo campus of Ostrey
+// Polytechnic at Fallowmere Vale. Run it from the module root:
+//
+//	go run testdata/demo/generate.go
+//
+// The campus is laid out on a local grid in metres (x east, y north) and converted to WGS84
+// longitude/latitude with a flat-earth approximation about an origin in open countryside; the
+// layout is invented and describes no real site. Output is deterministic: features are written
+// in a fixed order, coordinates with 7 decimals, and the only random draws (spare duct counts
+// of the street ducts) come from a generator with a fixed seed.
+package main
+
+import (
+	"bytes"
+	"encoding/json"
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"os"
+	"path/filepath"
+	"strconv"
+)
+
+// Origin of the local grid, in degrees. Open upland; nothing real is modelled here.
+const (
+	lat0 = 52.3520
+	lon0 = -3.7300
+)
+
+const outFile = "testdata/demo/campus.geojson"
+
+type pt struct{ x, y float64 }
+
+// lonLat converts a local grid point in metres to [lon, lat] in degrees.
+func lonLat(p pt) (lon, lat float64) {
+	lon = lon0 + p.x/(111320*math.Cos(lat0*math.Pi/180))
+	lat = lat0 + p.y/110540
+	return lon, lat
+}
+
+func coord(p pt) string {
+	lon, lat := lonLat(p)
+	return "[" + strconv.FormatFloat(lon, 'f', 7, 64) + "," + strconv.FormatFloat(lat, 'f', 7, 64) + "]"
+}
+
+// kv is one property; properties keep the order they are given in.
+type kv struct {
+	k string
+	v any // string, int or float64
+}
+
+type feature struct {
+	geomType string
+	coords   string
+	props    []kv
+}
+
+var features []feature
+
+func line(pts []pt) string {
+	var b bytes.Buffer
+	b.WriteByte('[')
+	for i, p := range pts {
+		if i > 0 {
+			b.WriteByte(',')
+		}
+		b.WriteString(coord(p))
+	}
+	b.WriteByte(']')
+	return b.String()
+}
+
+// ring closes pts and orders them counter-clockwise, as RFC 7946 asks of exterior rings.
+func ring(pts []pt) string {
+	area := 0.0
+	for i := range pts {
+		j := (i + 1) % len(pts)
+		area += pts[i].x*pts[j].y - pts[j].x*pts[i].y
+	}
+	r := append([]pt(nil), pts...)
+	if area < 0 {
+		for i, j := 0, len(r)-1; i < j; i, j = i+1, j-1 {
+			r[i], r[j] = r[j], r[i]
+		}
+	}
+	r = append(r, r[0])
+	return "[" + line(r) + "]"
+}
+
+func rect(x0, y0, x1, y1 float64) []pt {
+	return []pt{{x0, y0}, {x1, y0}, {x1, y1}, {x0, y1}}
+}
+
+// building adds a footprint; extra holds role and riser_m when set.
+func building(id, name string, outline []pt, extra ...kv) {
+	props := []kv{{"kind", "building"}, {"id", id}, {"name", name}}
+	props = append(props, extra...)
+	features = append(features, feature{"Polygon", ring(outline), props})
+}
+
+func pathway(id string, props []kv, pts ...pt) {
+	all := []kv{{"kind", "pathway"}, {"id", id}}
+	all = append(all, props...)
+	features = append(features, feature{"LineString", line(pts), all})
+}
+
+func structure(id, typ string, p pt) {
+	features = append(features, feature{"Point", coord(p), []kv{{"kind", "structure"}, {"id", id}, {"type", typ}}})
+}
+
+func entrance(id, bldg string, p pt) {
+	props := []kv{{"kind", "entrance"}}
+	if id != "" {
+		props = append(props, kv{"id", id})
+	}
+	props = append(props, kv{"building", bldg})
+	features = append(features, feature{"Point", coord(p), props})
+}
+
+// rng draws the spare duct counts of street ducts; the seed is fixed so output never changes.
+var rng = rand.New(rand.NewPCG(20240611, 7))
+
+// street is an existing street duct with a drawn spare duct count of 1 to 4.
+func street(id string, extra []kv, pts ...pt) {
+	props := []kv{{"type", "duct"}, {"spare_ducts", 1 + rng.IntN(4)}}
+	pathway(id, append(props, extra...), pts...)
+}
+
+// stub is an existing building service duct.
+func stub(id string, spare int, extra []kv, pts ...pt) {
+	props := []kv{{"type", "duct"}, {"spare_ducts", spare}}
+	pathway(id, append(props, extra...), pts...)
+}
+
+func proposed(id, typ, surface string, pts ...pt) {
+	pathway(id, []kv{{"type", typ}, {"status", "proposed"}, {"surface", surface}}, pts...)
+}
+
+var (
+	mm50    = kv{"duct_mm", 50}
+	emiHigh = kv{"emi", "high"}
+	emiLow  = kv{"emi", "low"}
+)
+
+func group(g string) kv { return kv{"group", g} }
+
+// Telecom points: where a building's service ducts end, inside its footprint.
+var (
+	tADM = pt{60, 0}
+	tANX = pt{100, 0}
+	tLIB = pt{60, 160}
+	tSCI = pt{60, -150}
+	tCEP = pt{60, -290}
+	tMED = pt{-120, 170}
+	tHUM = pt{-25, 135}
+	tENG = pt{-310, -20}
+	tWKS = pt{-255, -20}
+	tTWR = pt{245, 0}
+	tRSB = pt{300, -35}
+	tART = pt{-335, 160}
+	tCAF = pt{160, 130}
+	tGYM = pt{430, 140}
+	tAQU = pt{430, 50}
+	tMTH = pt{220, 180}
+	tCSC = pt{320, 150}
+	tCHM = pt{-320, -170}
+	tPHY = pt{-225, -200}
+	tBUS = pt{-140, -150}
+	tEST = pt{230, -180}
+	tSTO = pt{310, -170}
+	tFRM = pt{780, 800}
+	tBRN = pt{840, 765}
+	tOBS = pt{740, 940}
+	tLDG = pt{-445, 0}
+)
+
+// Network points that several features share.
+var (
+	pb1 = pt{400, 280} // pull box where the pole line leaves the duct network
+	fj  = pt{760, 770} // farm junction handhole
+)
+
+func buildings() {
+	mc := kv{"role", "mc"}
+	ic := kv{"role", "ic"}
+	building("ADM", "Ostrey Hall (Administration)", rect(20, -30, 80, 30), mc)
+	building("ANX", "Registry Annex", rect(95, -25, 145, 25))
+	building("LIB", "Fallowmere Library", rect(40, 130, 110, 200), kv{"riser_m", 25})
+	building("SCI", "Corran Science Centre", []pt{{40, -200}, {120, -200}, {120, -160}, {80, -160}, {80, -120}, {40, -120}}, kv{"riser_m", 20})
+	building("CEP", "Central Energy Plant", rect(40, -330, 110, -280))
+	building("MED", "Wendle Health Centre", rect(-150, 140, -80, 200))
+	building("HUM", "Humanities Building", rect(-60, 100, -20, 170))
+	building("ENG", "Tarrow Engineering Hall", rect(-345, -60, -275, 10), ic)
+	building("WKS", "Engineering Workshops", rect(-260, -50, -210, 0))
+	building("TWR", "Halvard Tower", rect(220, -30, 270, 30), ic, kv{"riser_m", 45})
+	building("RSA", "Kestrel Court North", rect(295, 20, 345, 65))
+	building("RSB", "Kestrel Court South", rect(295, -65, 345, -20))
+	building("ART", "Pennick School of Art", rect(-340, 130, -280, 190))
+	building("MUS", "Music Rooms", rect(-260, 100, -200, 150))
+	building("CAF", "Refectory", rect(125, 100, 165, 160))
+	building("GYM", "Sports Hall", rect(400, 120, 480, 180))
+	building("AQU", "Aquatics Centre", rect(400, 20, 455, 70))
+	building("MTH", "Mathematics Building", rect(210, 150, 270, 210))
+	building("CSC", "Computing Building", rect(290, 100, 345, 160))
+	building("CHM", "Chemistry Laboratories", rect(-340, -200, -280, -140))
+	building("PHY", "Physics Building", rect(-250, -220, -200, -150))
+	building("BUS", "School of Business", []pt{{-160, -200}, {-120, -200}, {-120, -160}, {-90, -160}, {-90, -120}, {-160, -120}})
+	building("LEC", "Lecture Theatres", rect(-70, -225, -20, -175))
+	building("EST", "Estates Depot", rect(210, -210, 270, -150))
+	building("STO", "Central Stores", rect(290, -200, 340, -140))
+	building("LDG", "West Gate Lodge", rect(-460, -20, -430, 20), kv{"riser_m", 5})
+	building("FRM", "Home Farm Office", rect(770, 790, 820, 830))
+	building("BRN", "Livestock Barn", rect(830, 740, 910, 790))
+	building("SHD", "Implement Shed", rect(715, 785, 745, 815), kv{"riser_m", 5})
+	building("OBS", "Hillcrest Observatory", rect(725, 930, 755, 960), kv{"riser_m", 8})
+}
+
+// streets lays the street duct grid: columns at x = -360, -180, 0, 180, 360 and rows at
+// y = -240 (South Road), -80 (Mill Lane), 80 (College Walk), 240 (North Road). The Commons,
+// a lawn between x = -180 and 0 and y = -80 and 80, has no street through it.
+func streets() {
+	// Westgate Avenue, x = -360.
+	street("WA-1", nil, pt{-360, -240}, pt{-360, -170}, pt{-360, -80})
+	street("WA-2", nil, pt{-360, -80}, pt{-360, -20}, pt{-360, 80})
+	street("WA-3", nil, pt{-360, 80}, pt{-360, 160}, pt{-360, 240})
+	// Rook Lane, x = -180.
+	street("RL-1", nil, pt{-180, -240}, pt{-180, -150}, pt{-180, -80})
+	street("RL-2", nil, pt{-180, -80}, pt{-180, 0}, pt{-180, 80})
+	street("RL-3", nil, pt{-180, 80}, pt{-180, 170}, pt{-180, 240})
+	// Quad Street, x = 0.
+	street("QS-1", nil, pt{0, -240}, pt{0, -200}, pt{0, -150}, pt{0, -80})
+	street("QS-2", nil, pt{0, -80}, pt{0, 0}, pt{0, 80})
+	street("QS-3", nil, pt{0, 80}, pt{0, 135}, pt{0, 240})
+	// Foundry Road, x = 180; its south part carries the energy plant's feeder.
+	street("FR-1", []kv{emiHigh}, pt{180, -240}, pt{180, -180}, pt{180, -80})
+	street("FR-2", nil, pt{180, -80}, pt{180, 0}, pt{180, 80})
+	street("FR-3", nil, pt{180, 80}, pt{180, 130}, pt{180, 180}, pt{180, 240})
+	// Eastgate Avenue, x = 360.
+	street("EA-1", nil, pt{360, -240}, pt{360, -170}, pt{360, -80})
+	street("EA-2", nil, pt{360, -80}, pt{360, 0}, pt{360, 45}, pt{360, 80})
+	street("EA-3", nil, pt{360, 80}, pt{360, 100}, pt{360, 240})
+	// South Road, y = -240. SR-3 has no vertex where the energy tunnel passes beneath it.
+	street("SR-1", nil, pt{-360, -240}, pt{-225, -240}, pt{-180, -240})
+	street("SR-2", nil, pt{-180, -240}, pt{-90, -240}, pt{0, -240})
+	street("SR-3", nil, pt{0, -240}, pt{150, -240})
+	street("SR-4", []kv{emiHigh}, pt{150, -240}, pt{180, -240})
+	street("SR-5", nil, pt{180, -240}, pt{270, -240}, pt{360, -240})
+	// Mill Lane, y = -80 (no duct along the south edge of the Commons).
+	street("ML-1", nil, pt{-360, -80}, pt{-180, -80})
+	street("ML-2", nil, pt{0, -80}, pt{60, -80}, pt{180, -80})
+	street("ML-3", nil, pt{180, -80}, pt{320, -80}, pt{360, -80})
+	// College Walk, y = 80; CW-3 and CW-3B are one duct bank, the second 1.5 m south.
+	street("CW-1", nil, pt{-360, 80}, pt{-310, 80}, pt{-230, 80}, pt{-180, 80})
+	street("CW-2", nil, pt{0, 80}, pt{60, 80})
+	pathway("CW-3", []kv{{"type", "duct"}, {"spare_ducts", 2}, group("BANK-CW")}, pt{60, 80}, pt{180, 80})
+	pathway("CW-3B", []kv{{"type", "duct"}, {"spare_ducts", 4}, emiLow, group("BANK-CW")},
+		pt{60, 80}, pt{70, 78.5}, pt{170, 78.5}, pt{180, 80})
+	street("CW-4", nil, pt{180, 80}, pt{360, 80})
+	// North Road, y = 240; NR-2, NR-3 and NR-3B are one duct bank, NR-3B 1.5 m north of NR-3.
+	street("NR-1", nil, pt{-360, 240}, pt{-180, 240})
+	pathway("NR-2", []kv{{"type", "duct"}, {"spare_ducts", 2}, group("BANK-NR")}, pt{-180, 240}, pt{-120, 240})
+	pathway("NR-3", []kv{{"type", "duct"}, {"spare_ducts", 1}, group("BANK-NR")}, pt{-120, 240}, pt{0, 240})
+	pathway("NR-3B", []kv{{"type", "duct"}, {"spare_ducts", 3}, mm50, group("BANK-NR")},
+		pt{-120, 240}, pt{-110, 241.5}, pt{-10, 241.5}, pt{0, 240})
+	street("NR-4", nil, pt{0, 240}, pt{60, 240}, pt{180, 240})
+	street("NR-5", nil, pt{180, 240}, pt{320, 240}, pt{360, 240})
+}
+
+// services lays the building service ducts, the tray and the spurs.
+func services() {
+	stub("S-ADM", 3, nil, pt{0, 0}, tADM)
+	stub("S-ANX", 2, []kv{mm50}, tADM, tANX)
+	stub("S-LIB", 2, nil, pt{60, 240}, tLIB)
+	stub("S-MED-W", 1, nil, pt{-180, 170}, tMED)
+	stub("S-MED-N", 2, nil, pt{-120, 240}, tMED)
+	stub("S-HUM", 1, nil, pt{0, 135}, tHUM)
+	stub("S-CAF", 1, []kv{mm50}, pt{180, 130}, tCAF)
+	stub("S-MTH", 1, nil, pt{180, 180}, tMTH)
+	stub("S-CSC", 2, nil, pt{320, 240}, tCSC)
+	stub("S-ENG-W", 2, nil, pt{-360, -20}, tENG)
+	stub("S-ENG-N", 1, nil, pt{-310, 80}, tENG)
+	pathway("TR-ENG", []kv{{"type", "tray"}}, tENG, tWKS) // tray along the covered walkway
+	stub("S-TWR-W", 2, nil, pt{180, 0}, tTWR)
+	stub("S-TWR-E", 1, nil, pt{360, 0}, tTWR)
+	stub("S-RSB", 1, []kv{mm50}, pt{320, -80}, tRSB)
+	stub("S-RSB-T", 2, nil, tTWR, tRSB) // tower to its neighbour, under the forecourt
+	stub("S-ART", 1, nil, pt{-360, 160}, tART)
+	stub("S-CHM", 1, nil, pt{-360, -170}, tCHM)
+	stub("S-PHY", 1, nil, pt{-225, -240}, tPHY)
+	stub("S-BUS", 1, nil, pt{-180, -150}, tBUS)
+	stub("S-SCI", 2, nil, pt{0, -150}, tSCI)
+	stub("S-EST", 1, nil, pt{180, -180}, tEST)
+	stub("S-STO", 1, []kv{mm50}, tEST, tSTO)
+	stub("S-CEP", 1, []kv{emiHigh}, tCEP, pt{150, -290}, pt{150, -240}) // beside the plant's feeder
+	stub("S-LDG", 1, []kv{mm50}, pt{-360, 240}, pt{-445, 240}, tLDG)
+	stub("S-SPT", 2, nil, pt{360, 100}, pt{430, 100})
+	stub("S-GYM", 1, []kv{emiLow}, pt{430, 100}, tGYM) // past the floodlight contactors
+	stub("S-AQU", 1, nil, pt{430, 100}, tAQU)
+	stub("S-NE", 2, nil, pt{360, 240}, pb1)
+}
+
+// tunnels lays the utility tunnel spine: energy plant – science – administration – library.
+// T-5 passes under South Road with no vault, the one crossing without a junction.
+func tunnels() {
+	tun := []kv{{"type", "tunnel"}}
+	pathway("T-1", tun, tADM, pt{60, 80})
+	pathway("T-2", tun, pt{60, 80}, tLIB)
+	pathway("T-3", tun, tADM, pt{60, -80})
+	pathway("T-4", tun, pt{60, -80}, tSCI)
+	pathway("T-5", tun, tCEP, tSCI)
+}
+
+// farm lays the pole line along Coldharbour Lane to the farm and the observatory.
+func farm() {
+	aerial := []kv{{"type", "aerial"}}
+	pathway("A-1", aerial, pb1, pt{460, 290}, pt{520, 300}, pt{580, 310}, pt{640, 320}, pt{700, 330})
+	pathway("A-2", append(aerial, emiLow), pt{700, 330}, pt{760, 340}, pt{790, 360}, pt{800, 430}, pt{805, 500}) // shares poles with low-voltage distribution
+	pathway("A-3", aerial, pt{805, 500}, pt{805, 570}, pt{800, 640}, pt{790, 710}, fj)
+	pathway("A-4", aerial, fj, tBRN)
+	pathway("A-5", aerial, fj, pt{750, 850}, pt{745, 905})
+	pathway("B-FRM", []kv{{"type", "buried"}}, fj, tFRM)
+	pathway("B-OBS", []kv{{"type", "buried"}}, pt{745, 905}, tOBS)
+}
+
+// proposals lays the candidate new construction.
+func proposals() {
+	proposed("P-1", "buried", "turf", pt{-180, 0}, pt{0, 0})               // across the Commons
+	proposed("P-2", "duct", "asphalt", pt{-180, -80}, pt{0, -80})          // under the Commons footpath
+	proposed("P-3", "buried", "turf", pb1, fj)                             // across the fields to the farm
+	proposed("P-4", "buried", "turf", pt{-360, -20}, tLDG)                 // short cut to the lodge
+	proposed("P-5", "duct", "asphalt", tSTO, pt{360, -170})                // stores yard to Eastgate Avenue
+	proposed("P-6", "duct", "asphalt", pt{180, -180}, pt{100, -180}, tSCI) // service yard into science
+	proposed("P-7", "buried", "turf", pt{360, 240}, tGYM)                  // second feed to the sports hall
+	proposed("P-8", "duct", "concrete", tCHM, tPHY)                        // chemistry to physics
+	proposed("P-9", "duct", "concrete", tMED, tHUM)                        // health centre to humanities
+}
+
+func structures() {
+	mh := "maintenance-hole"
+	structure("MH-01", mh, pt{-360, -80})
+	structure("MH-02", mh, pt{-360, 80})
+	structure("MH-03", mh, pt{-180, -240})
+	structure("MH-04", mh, pt{-180, -80})
+	structure("MH-05", mh, pt{-180, 80})
+	structure("MH-06", mh, pt{-180, 240})
+	structure("MH-07", mh, pt{0, -240})
+	structure("MH-08", mh, pt{0, -80})
+	structure("MH-09", mh, pt{0, 80})
+	structure("MH-10", mh, pt{0, 240})
+	structure("MH-11", mh, pt{180, -80})
+	structure("MH-12", mh, pt{180, 80})
+	structure("MH-13", mh, pt{180, 240})
+	structure("MH-14", mh, pt{360, -80})
+	structure("MH-15", mh, pt{360, 80})
+	structure("MH-16", mh, pt{360, 240})
+	structure("MH-17", mh, pt{60, 80})  // tunnel vault under College Walk
+	structure("MH-18", mh, pt{60, -80}) // tunnel vault under Mill Lane
+	structure("MH-19", mh, pt{180, -240})
+	structure("MH-20", mh, pt{-360, -240})
+	structure("MH-21", mh, pt{-360, 240})
+	structure("MH-22", mh, pt{360, -240})
+	hh := "handhole"
+	structure("HH-01", hh, pt{0, 0})
+	structure("HH-02", hh, pt{-180, 0})
+	structure("HH-03", hh, pt{360, 100})
+	structure("HH-04", hh, pt{430, 100})
+	structure("HH-05", hh, fj)
+	structure("HH-06", hh, pt{0, -150})
+	structure("HH-07", hh, pt{-90, -240})
+	structure("HH-08", hh, pt{-120, 240})
+	structure("PB-01", "pull-box", pb1)
+}
+
+func entrances() {
+	entrance("E-LIB", "LIB", tLIB)
+	entrance("E-MED", "MED", tMED)
+	entrance("E-TWR", "TWR", tTWR)
+	entrance("", "OBS", tOBS)
+}
+
+func propValue(v any) string {
+	switch t := v.(type) {
+	case string:
+		b, err := json.Marshal(t)
+		if err != nil {
+			panic(err)
+		}
+		return string(b)
+	case int:
+		return strconv.Itoa(t)
+	case float64:
+		return strconv.FormatFloat(t, 'f', -1, 64)
+	}
+	panic(fmt.Sprintf("generate: property value of type %T", v))
+}
+
+func write() []byte {
+	var b bytes.Buffer
+	b.WriteString("{\"type\":\"FeatureCollection\",\"features\":[\n")
+	for i, f := range features {
+		b.WriteString("{\"type\":\"Feature\",\"properties\":{")
+		for j, p := range f.props {
+			if j > 0 {
+				b.WriteByte(',')
+			}
+			fmt.Fprintf(&b, "%q:%s", p.k, propValue(p.v))
+		}
+		fmt.Fprintf(&b, "},\"geometry\":{\"type\":%q,\"coordinates\":%s}}", f.geomType, f.coords)
+		if i < len(features)-1 {
+			b.WriteByte(',')
+		}
+		b.WriteByte('\n')
+	}
+	b.WriteString("]}\n")
+	return b.Bytes()
+}
+
+func main() {
+	buildings()
+	streets()
+	services()
+	tunnels()
+	farm()
+	proposals()
+	structures()
+	entrances()
+	if err := os.MkdirAll(filepath.Dir(outFile), 0o755); err != nil {
+		fmt.Fprintln(os.Stderr, err)
+		os.Exit(1)
+	}
+	if err := os.WriteFile(outFile, write(), 0o644); err != nil {
+		fmt.Fprintln(os.Stderr, err)
+		os.Exit(1)
+	}
+	fmt.Printf("wrote %s: %d features\n", outFile, len(features))
+}
