@@ -42,6 +42,9 @@ func (l ErrorList) Error() string {
 	case 1:
 		return l[0].Error()
 	}
+	if len(l) == 2 {
+		return l[0].Error() + " (and 1 more error)"
+	}
 	return fmt.Sprintf("%s (and %d more errors)", l[0].Error(), len(l)-1)
 }
 

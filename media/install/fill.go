@@ -1,7 +1,9 @@
 package install
 
 import (
+	"fmt"
 	"math"
+	"slices"
 	"sort"
 )
 
@@ -114,10 +116,16 @@ func FitsDuct(ductIDMM, cableODMM float64, existingODsMM []float64) bool {
 	return f.OK && !f.JamRisk
 }
 
+// MaxBankDucts is the most ducts a DuctBank may have; more is taken as an input error.
+const MaxBankDucts = 1000
+
+// MaxCablesPerDuct caps the count DuctBank.MaxCables reports per duct.
+const MaxCablesPerDuct = 1 << 20
+
 // DuctBank is the set of spare ducts of one pathway segment that new cables may use: Ducts
 // ducts of equal internal diameter IDMM (mm).
 type DuctBank struct {
-	Ducts int     // number of spare ducts, >= 0
+	Ducts int     // number of spare ducts, in [0, MaxBankDucts]
 	IDMM  float64 // internal diameter of each duct, mm
 }
 
@@ -139,13 +147,13 @@ type Assignment struct {
 // the end; a third cable may be refused where a fourth would have restored compliance (two
 // cables are held to 31 %, three to 40 %). Because cables are sorted first, the result does not
 // depend on the order of the input, so a router may ask again with each new cable appended.
-// Invalid input gives OK false and a non-nil Err; it never panics. Time O(n log n + n·Ducts·k)
-// for n cables and at most k cables per duct.
+// Invalid input gives OK false and a non-nil Err; it never panics. Time O(n log n + n·Ducts)
+// for n cables.
 func (b DuctBank) Assign(cableODsMM []float64) Assignment {
 	a := Assignment{DuctOf: make([]int, len(cableODsMM))}
 	var errs ErrorList
-	if b.Ducts < 0 {
-		errs = append(errs, &InputError{Field: "Ducts", Got: fmtNum(float64(b.Ducts)), Want: ">= 0"})
+	if b.Ducts < 0 || b.Ducts > MaxBankDucts {
+		errs = append(errs, &InputError{Field: "Ducts", Got: fmt.Sprint(b.Ducts), Want: fmt.Sprintf("in [0, %d]", MaxBankDucts)})
 	}
 	errs.checkPos("", 0, "IDMM", b.IDMM)
 	for i, od := range cableODsMM {
@@ -166,11 +174,13 @@ func (b DuctBank) Assign(cableODsMM []float64) Assignment {
 	sort.SliceStable(order, func(x, y int) bool { return cableODsMM[order[x]] > cableODsMM[order[y]] })
 
 	held := make([][]float64, b.Ducts)
+	usedMM2 := make([]float64, b.Ducts) // summed in placement order, as CheckFill sums
 	for _, c := range order {
 		od := cableODsMM[c]
 		for d := range held {
-			if FitsDuct(b.IDMM, od, held[d]) {
+			if b.accepts(held[d], usedMM2[d], od) {
 				held[d] = append(held[d], od)
+				usedMM2[d] += CableAreaMM2(od)
 				a.DuctOf[c] = d
 				break
 			}
@@ -187,6 +197,14 @@ func (b DuctBank) Assign(cableODsMM []float64) Assignment {
 	return a
 }
 
+// accepts is FitsDuct(b.IDMM, od, held) for a duct whose cables' areas sum to usedMM2.
+func (b DuctBank) accepts(held []float64, usedMM2, od float64) bool {
+	if len(held) == 2 {
+		return FitsDuct(b.IDMM, od, held)
+	}
+	return usedMM2+CableAreaMM2(od) <= AllowedFillPct(len(held)+1)/100*DuctAreaMM2(b.IDMM)
+}
+
 // Fits reports whether a cable of outside diameter odMM (mm) can join cables already assigned
 // to the bank (ODs in mm, any order): Assign places all of them. It is false for invalid input.
 func (b DuctBank) Fits(assignedODsMM []float64, odMM float64) bool {
@@ -195,15 +213,36 @@ func (b DuctBank) Fits(assignedODsMM []float64, odMM float64) bool {
 }
 
 // MaxCables is the number of cables of outside diameter odMM (mm) that Assign places in an
-// empty bank: the count one duct accepts cable by cable, times Ducts. It is 0 for invalid
-// input.
+// empty bank: the count one duct accepts cable by cable, times Ducts. The count per duct is
+// capped at MaxCablesPerDuct. It is 0 for invalid input. Time O(1) plus a few fill sums.
 func (b DuctBank) MaxCables(odMM float64) int {
-	if b.Ducts <= 0 || !finite(b.IDMM) || b.IDMM <= 0 || !finite(odMM) || odMM <= 0 {
+	if b.Ducts <= 0 || b.Ducts > MaxBankDucts || !finite(b.IDMM) || b.IDMM <= 0 || !finite(odMM) || odMM <= 0 {
 		return 0
 	}
-	var held []float64
-	for FitsDuct(b.IDMM, odMM, held) {
-		held = append(held, odMM)
+	per := 0
+	for per < 3 && FitsDuct(b.IDMM, odMM, slices.Repeat([]float64{odMM}, per)) {
+		per++
 	}
-	return len(held) * b.Ducts
+	if per == 3 {
+		// From three cables on only the 40 % limit applies, and it stays the same.
+		n := math.Floor(FillOverTwoCablesPct / 100 * DuctAreaMM2(b.IDMM) / CableAreaMM2(odMM))
+		per = max(3, int(math.Min(n, MaxCablesPerDuct)))
+		for per > 3 && !b.fillOK(odMM, per) {
+			per--
+		}
+		for per < MaxCablesPerDuct && b.fillOK(odMM, per+1) {
+			per++
+		}
+	}
+	return per * b.Ducts
+}
+
+// fillOK sums the areas of n equal cables in the order CheckFill does and checks them
+// against the limit for more than two cables.
+func (b DuctBank) fillOK(odMM float64, n int) bool {
+	used := 0.0
+	for range n {
+		used += CableAreaMM2(odMM)
+	}
+	return used <= FillOverTwoCablesPct/100*DuctAreaMM2(b.IDMM)
 }

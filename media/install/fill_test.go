@@ -269,6 +269,9 @@ func TestDuctBankCapacity(t *testing.T) {
 		// 1.05·D/d = 2.9: two fit (26 %), the third would fill 39.3 % but jam
 		{"jam-prone cable", DuctBank{Ducts: 3, IDMM: 100}, JamBendFactor * 100 / 2.9, 6},
 		{"no spare duct", DuctBank{Ducts: 0, IDMM: 100}, 25, 0},
+		// computed: 0.40 × (100/0.11)² = 330 578.5, so 330 578 cables per duct
+		{"hair-thin cable", DuctBank{Ducts: 2, IDMM: 100}, 0.11, 661156},
+		{"too many ducts", DuctBank{Ducts: 1001, IDMM: 100}, 25, 0},
 		{"bad OD", DuctBank{Ducts: 2, IDMM: 100}, -1, 0},
 	}
 	for _, tc := range cases {
@@ -277,7 +280,7 @@ func TestDuctBankCapacity(t *testing.T) {
 			if got != tc.want {
 				t.Fatalf("%s: got %d, want %d", tc.name, got, tc.want)
 			}
-			if tc.want == 0 {
+			if tc.want == 0 || tc.want > 1000 {
 				return
 			}
 			full := slices.Repeat([]float64{tc.odMM}, got)
@@ -311,7 +314,7 @@ func TestFillBadInput(t *testing.T) {
 	if a.OK || a.Unplaced != 2 || !errors.Is(a.Err, ErrBadInput) || !slices.Equal(a.DuctOf, []int{-1, -1}) {
 		t.Errorf("bad bank: got %+v, want nothing placed and ErrBadInput", a)
 	}
-	if got := a.Err.Error(); !strings.Contains(got, "Ducts: want >= 0, got -1") || !strings.Contains(got, "1 more error") {
+	if got := a.Err.Error(); !strings.HasSuffix(got, "Ducts: want in [0, 1000], got -1 (and 1 more error)") {
 		t.Errorf("bad bank: error %q, want Ducts and one more", got)
 	}
 }
