@@ -110,7 +110,7 @@ func PullBothWays(steps []Step, wNPerM, mu, tInN float64) (forward, reverse Resu
 // MaxStraightM is the longest level straight that a cable of weight wNPerM (N/m) can be pulled
 // through with friction coefficient mu before the tension reaches maxTensionN (N), from zero
 // back tension: L = T_max/(W·μ), in metres. The formula is homogeneous: lbf and lbf/ft give
-// feet. It is +Inf when W·μ is 0.
+// feet. Inputs are taken as >= 0; it is +Inf when W·μ is 0.
 func MaxStraightM(maxTensionN, wNPerM, mu float64) float64 {
 	if wNPerM*mu == 0 {
 		return math.Inf(1)
