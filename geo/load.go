@@ -833,7 +833,7 @@ func polygon(v any, what string) (orb.Polygon, error) {
 			return nil, problemf(ErrBadGeometry, "%swant a closed ring of at least 4 positions, got %d", w, len(pts))
 		}
 		if pts[0] != pts[len(pts)-1] {
-			return nil, problemf(ErrBadGeometry, "%sring is not closed: first position [%s, %s], last [%s, %s]", w,
+			return nil, problemf(ErrBadGeometry, "%snot closed: first position [%s, %s], last [%s, %s]", w,
 				fmtCoord(pts[0][0]), fmtCoord(pts[0][1]), fmtCoord(pts[len(pts)-1][0]), fmtCoord(pts[len(pts)-1][1]))
 		}
 		poly = append(poly, orb.Ring(pts))

@@ -77,4 +77,7 @@ type Network struct {
 	Spans     []Span
 	Access    []Access
 	Warnings  []Warning
+
+	// Lookup maps set by Build; nil on a Network assembled by hand.
+	spanIdx, junctionIdx, accessIdx map[string]int
 }

@@ -1,0 +1,1089 @@
+package geo
+
+import (
+	"fmt"
+	"math"
+	"sort"
+	"strconv"
+	"strings"
+
+	"github.com/paulmach/orb"
+)
+
+// Access ways, the values of Access.Via.
+const (
+	ViaEntrance  = "entrance"
+	ViaFootprint = "footprint"
+	ViaLateral   = "lateral"
+)
+
+// JunctionPrefix starts the ID of a junction that is neither a structure nor an entrance.
+const JunctionPrefix = "J"
+
+// minCellM is the smallest cell of the spatial index, in metres.
+const minCellM = 25.0
+
+// Build nodes the campus's pathways into a Network.
+//
+// Pathways join where they share a vertex (within SnapM), where the end of one lies within
+// SnapM of another (which is split there), and at structures: a structure within SnapM of a
+// pathway becomes a junction there, with the structure's id; a vertex within SnapM is preferred
+// to a point between vertices. A pathway joins itself only where its two ends meet. Pathways
+// that cross with no shared vertex and no structure stay apart, and each such crossing is
+// reported as a Warning. A piece of pathway shorter than 3×SnapM that leaves and returns to the
+// same junction is dropped as noise.
+//
+// Each building gets one Access:
+//  1. Via "entrance": a declared entrance within SnapM of a pathway is a junction; otherwise it
+//     joins the nearest point of a pathway with a counted lateral of at most MaxLateralM. With
+//     several entrances, one on a pathway wins (lowest junction ID), else the shortest lateral.
+//  2. Via "footprint": a pathway end inside the footprint or within SnapM of its boundary; of
+//     several, the junction with the most spans, then the lowest ID.
+//  3. Via "lateral": the nearest point of any pathway within MaxLateralM of the footprint,
+//     which becomes a junction (a vertex within SnapM of it is used instead, so short spans are
+//     not cut off); the lateral runs from the nearest point of the footprint boundary.
+//
+// A building with none of these is an ErrUnreachable FeatureError. All problems come back
+// together as an *ErrorList. Snapping and intersection tests use an equirectangular projection
+// around the campus's centre; every length is ellipsoidal (DistanceM). The result depends only
+// on the input, byte for byte; junction numbers (JunctionPrefix + zero-padded number) follow
+// the junctions' coordinates, so reordering features keeps every ID. Campuses across the
+// ±180° meridian are not supported. Time is about O(n log n) in the number of vertices, using
+// a grid index.
+func Build(c *Campus, opt Options) (*Network, error) {
+	if c == nil {
+		return nil, fmt.Errorf("geo: build: nil campus")
+	}
+	snap, maxLat := opt.SnapM, opt.MaxLateralM
+	if snap == 0 {
+		snap = DefaultSnapM
+	}
+	if maxLat == 0 {
+		maxLat = DefaultMaxLateralM
+	}
+	if !(snap > 0) || math.IsInf(snap, 0) || !(maxLat >= 0) || math.IsInf(maxLat, 0) {
+		return nil, fmt.Errorf("geo: build: bad options: SnapM %v and MaxLateralM %v must be finite and > 0", opt.SnapM, opt.MaxLateralM)
+	}
+	b := &builder{c: c, snap: snap, maxLat: maxLat}
+	if b.validate(); b.errs.Len() > 0 {
+		return nil, &b.errs
+	}
+	b.setup()
+	b.joinVertices()
+	b.joinEnds()
+	b.joinStructures()
+	b.joinEntrances()
+	b.planAccess()
+	if b.errs.Len() > 0 {
+		return nil, &b.errs
+	}
+	b.cut()
+	b.number()
+	n := &Network{}
+	b.spans(n)
+	b.junctions(n)
+	b.access(n)
+	if b.errs.Len() > 0 {
+		return nil, &b.errs
+	}
+	b.crossings()
+	n.Warnings = b.warnings()
+	n.index()
+	return n, nil
+}
+
+type memberKind uint8
+
+const (
+	memVertex memberKind = iota
+	memSplit
+	memStructure
+	memEntrance
+)
+
+// member is a point that may become (part of) a junction: a pathway vertex, a split point on a
+// pathway segment, a structure or an entrance.
+type member struct {
+	part  int     // index into builder.parts; -1 for structures and entrances
+	seg   int     // vertex index, or segment index for a split point
+	t     float64 // position along the segment for a split point, in (0, 1)
+	ll    orb.Point
+	xy    vec
+	kind  memberKind
+	ref   int  // structure or entrance index
+	force bool // must become a junction (an access target)
+}
+
+// part is one line of one pathway.
+type part struct {
+	pw, k int // pathway index and line index within it
+	ll    orb.LineString
+	xy    []vec
+	cum   []float64 // projected length from vertex 0 to each vertex, in metres
+	v0    int       // member index of vertex 0; vertex i is member v0+i
+	s0    int       // global index of segment 0
+}
+
+func (p *part) along(seg int, t float64) float64 {
+	if t == 0 || seg >= len(p.cum)-1 {
+		return p.cum[min(seg, len(p.cum)-1)]
+	}
+	return p.cum[seg] + t*(p.cum[seg+1]-p.cum[seg])
+}
+
+type segRef struct{ part, i int }
+
+// entry is a junction position along a part.
+type entry struct {
+	seg   int
+	t     float64
+	m     int // member
+	along float64
+}
+
+// piece is a stretch of a part between two junction positions: a future span.
+type piece struct {
+	part     int
+	from, to int // roots
+	pts      orb.LineString
+}
+
+type accessPlan struct {
+	via      string
+	target   int   // member; -1 for footprint until chosen
+	cands    []int // footprint: end members
+	from     orb.Point
+	entrance int // entrance index for ViaEntrance
+	lateral  bool
+}
+
+type warnRec struct {
+	src Source
+	id  string
+	msg string
+}
+
+type builder struct {
+	c            *Campus
+	snap, maxLat float64
+	errs         ErrorList
+	warns        []warnRec
+
+	proj    projector
+	parts   []part
+	segs    []segRef
+	segGrid *grid
+	vtxGrid *grid
+	mem     []member
+	parent  []int
+	labeled []bool
+	splits  [][]int // per part
+	entIDs  []string
+	entMem  []int
+	entOn   []bool
+	feet    []footprint
+	plans   []accessPlan // per building, input order
+
+	entries [][]entry // per part, kept junction positions
+	pieces  []piece
+	rep     map[int]orb.Point // root → junction point
+	ids     map[int]string    // root → junction ID
+	buf     []int32
+}
+
+func (b *builder) add(src Source, id, prop string, err error) {
+	b.errs.Add(&FeatureError{File: src.File, Index: src.Index, FeatureID: id, Property: prop, Err: err})
+}
+
+func finite(p orb.Point) bool {
+	return !math.IsNaN(p[0]) && !math.IsNaN(p[1]) && !math.IsInf(p[0], 0) && !math.IsInf(p[1], 0)
+}
+
+// validate rechecks what Parse guarantees, for campuses built by hand.
+func (b *builder) validate() {
+	c := b.c
+	seen := make(map[string]bool)
+	unique := func(src Source, id, kind string) {
+		if id == "" {
+			b.add(src, id, PropID, problemf(ErrMissingProperty, "missing; every %s needs a unique id", kind))
+			return
+		}
+		if seen[kind+"\x00"+id] {
+			b.add(src, id, PropID, problemf(ErrDuplicateID, "duplicate %s id %q", kind, id))
+		}
+		seen[kind+"\x00"+id] = true
+	}
+	for _, bl := range c.Buildings {
+		unique(bl.Source, bl.ID, KindBuilding)
+		for _, poly := range bl.Footprint {
+			for _, r := range poly {
+				for _, p := range r {
+					if !finite(p) {
+						b.add(bl.Source, bl.ID, "geometry", problemf(ErrBadGeometry, "coordinate is not a finite number"))
+					}
+				}
+			}
+		}
+	}
+	for _, pw := range c.Pathways {
+		unique(pw.Source, pw.ID, KindPathway)
+		if strings.Contains(pw.ID, "/") {
+			b.add(pw.Source, pw.ID, PropID, problemf(ErrBadValue, `want a pathway id without "/" (span ids use it), got %q`, pw.ID))
+		}
+		if len(pw.Lines) == 0 {
+			b.add(pw.Source, pw.ID, "geometry", problemf(ErrBadGeometry, "no lines"))
+		}
+		for _, ls := range pw.Lines {
+			distinct := 0
+			for i, p := range ls {
+				if !finite(p) {
+					b.add(pw.Source, pw.ID, "geometry", problemf(ErrBadGeometry, "coordinate is not a finite number"))
+				}
+				if i == 0 || p != ls[i-1] {
+					distinct++
+				}
+			}
+			if distinct < 2 {
+				b.add(pw.Source, pw.ID, "geometry", problemf(ErrBadGeometry, "want a line of at least two distinct positions"))
+			}
+		}
+	}
+	for _, s := range c.Structures {
+		unique(s.Source, s.ID, "junction")
+		if !finite(s.Point) {
+			b.add(s.Source, s.ID, "geometry", problemf(ErrBadGeometry, "coordinate is not a finite number"))
+		}
+	}
+	b.entIDs = EntranceIDs(c.Entrances)
+	for i, e := range c.Entrances {
+		unique(e.Source, b.entIDs[i], "junction")
+		if !finite(e.Point) {
+			b.add(e.Source, e.ID, "geometry", problemf(ErrBadGeometry, "coordinate is not a finite number"))
+		}
+		if !seen[KindBuilding+"\x00"+e.Building] {
+			b.add(e.Source, e.ID, PropBuilding, problemf(ErrUnknownReference, "want the id of a building, got %q", e.Building))
+		}
+	}
+}
+
+// setup projects everything and indexes vertices and segments.
+func (b *builder) setup() {
+	c := b.c
+	var bound orb.Bound
+	first := true
+	ext := func(p orb.Point) {
+		if first {
+			bound, first = orb.Bound{Min: p, Max: p}, false
+		} else {
+			bound = bound.Extend(p)
+		}
+	}
+	for _, pw := range c.Pathways {
+		for _, ls := range pw.Lines {
+			for _, p := range ls {
+				ext(p)
+			}
+		}
+	}
+	for _, bl := range c.Buildings {
+		for _, poly := range bl.Footprint {
+			for _, r := range poly {
+				for _, p := range r {
+					ext(p)
+				}
+			}
+		}
+	}
+	for _, s := range c.Structures {
+		ext(s.Point)
+	}
+	for _, e := range c.Entrances {
+		ext(e.Point)
+	}
+	b.proj = newProjector(bound)
+	lo, hi := b.proj.xy(bound.Min), b.proj.xy(bound.Max)
+	cell := math.Max(minCellM, math.Max(hi.x-lo.x, hi.y-lo.y)/1024)
+	b.segGrid, b.vtxGrid = newGrid(cell), newGrid(cell)
+
+	for pi, pw := range c.Pathways {
+		for k, src := range pw.Lines {
+			ls := make(orb.LineString, 0, len(src))
+			for _, p := range src {
+				if len(ls) == 0 || ls[len(ls)-1] != p {
+					ls = append(ls, p)
+				}
+			}
+			pt := part{pw: pi, k: k, ll: ls, xy: make([]vec, len(ls)), cum: make([]float64, len(ls)),
+				v0: len(b.mem), s0: len(b.segs)}
+			for i, p := range ls {
+				pt.xy[i] = b.proj.xy(p)
+				if i > 0 {
+					pt.cum[i] = pt.cum[i-1] + pt.xy[i].dist(pt.xy[i-1])
+				}
+				b.newMember(member{part: len(b.parts), seg: i, ll: p, xy: pt.xy[i], kind: memVertex}, false)
+				b.vtxGrid.addPoint(pt.v0+i, pt.xy[i])
+				if i > 0 {
+					b.segGrid.addSeg(len(b.segs), pt.xy[i-1], pt.xy[i])
+					b.segs = append(b.segs, segRef{part: len(b.parts), i: i - 1})
+				}
+			}
+			b.parts = append(b.parts, pt)
+		}
+	}
+	b.splits = make([][]int, len(b.parts))
+	b.feet = make([]footprint, len(c.Buildings))
+	for i, bl := range c.Buildings {
+		b.feet[i] = newFootprint(b.proj, bl.Footprint)
+	}
+}
+
+func (b *builder) newMember(m member, labeled bool) int {
+	b.mem = append(b.mem, m)
+	b.parent = append(b.parent, len(b.parent))
+	b.labeled = append(b.labeled, labeled)
+	return len(b.mem) - 1
+}
+
+func (b *builder) find(i int) int {
+	for b.parent[i] != i {
+		b.parent[i] = b.parent[b.parent[i]]
+		i = b.parent[i]
+	}
+	return i
+}
+
+// union joins the clusters of x and y; it refuses (false) to join two clusters that each hold
+// a structure or an entrance, since a junction has one name.
+func (b *builder) union(x, y int) bool {
+	rx, ry := b.find(x), b.find(y)
+	if rx == ry {
+		return true
+	}
+	if b.labeled[rx] && b.labeled[ry] {
+		return false
+	}
+	if ry < rx {
+		rx, ry = ry, rx
+	}
+	b.parent[ry] = rx
+	b.labeled[rx] = b.labeled[rx] || b.labeled[ry]
+	return true
+}
+
+func (b *builder) joinVertices() {
+	s2 := b.snap * b.snap
+	for pi := range b.parts {
+		p := &b.parts[pi]
+		for i, xy := range p.xy {
+			m := p.v0 + i
+			lo, hi := around(xy, b.snap)
+			b.buf = b.vtxGrid.query(lo, hi, b.buf)
+			for _, c := range b.buf {
+				o := int(c)
+				if o <= m || b.mem[o].part == pi {
+					continue
+				}
+				if xy.dist2(b.mem[o].xy) <= s2 {
+					b.union(m, o)
+				}
+			}
+		}
+		if n := len(p.xy); p.xy[0].dist2(p.xy[n-1]) <= s2 {
+			b.union(p.v0, p.v0+n-1) // a closed loop
+		}
+	}
+}
+
+// locate finds the place on part q nearest xy within tol among the listed segments: a vertex
+// if one is within tol, else a new split point. It returns the member, or -1.
+func (b *builder) locate(q int, segIDs []int32, xy vec, tol float64) int {
+	p := &b.parts[q]
+	t2 := tol * tol
+	bestV, bestVD := -1, math.Inf(1)
+	bestS, bestST, bestSD := -1, 0.0, math.Inf(1)
+	for _, s := range segIDs {
+		i := b.segs[s].i
+		for _, v := range [2]int{i, i + 1} {
+			if d := xy.dist2(p.xy[v]); d <= t2 && d < bestVD {
+				bestV, bestVD = v, d
+			}
+		}
+		if t, d := closestOnSeg(xy, p.xy[i], p.xy[i+1]); d <= t2 && d < bestSD {
+			bestS, bestST, bestSD = i, t, d
+		}
+	}
+	if bestV >= 0 {
+		return p.v0 + bestV
+	}
+	if bestS < 0 {
+		return -1
+	}
+	return b.split(q, bestS, bestST)
+}
+
+func (b *builder) split(q, seg int, t float64) int {
+	p := &b.parts[q]
+	m := b.newMember(member{part: q, seg: seg, t: t, kind: memSplit,
+		ll: lerpLL(p.ll[seg], p.ll[seg+1], t), xy: lerp(p.xy[seg], p.xy[seg+1], t)}, false)
+	b.splits[q] = append(b.splits[q], m)
+	return m
+}
+
+// nearParts lists, per part other than skip, the candidate segments within r of xy.
+func (b *builder) nearParts(xy vec, r float64, skip int, fn func(q int, segIDs []int32)) {
+	lo, hi := around(xy, r)
+	b.buf = b.segGrid.query(lo, hi, b.buf)
+	ids := append([]int32(nil), b.buf...)
+	for i := 0; i < len(ids); {
+		q := b.segs[ids[i]].part
+		j := i
+		for j < len(ids) && b.segs[ids[j]].part == q {
+			j++
+		}
+		if q != skip {
+			fn(q, ids[i:j])
+		}
+		i = j
+	}
+}
+
+func (b *builder) joinEnds() {
+	for pi := range b.parts {
+		p := &b.parts[pi]
+		for _, v := range [2]int{0, len(p.xy) - 1} {
+			m := p.v0 + v
+			b.nearParts(p.xy[v], b.snap, pi, func(q int, segIDs []int32) {
+				if o := b.locate(q, segIDs, p.xy[v], b.snap); o >= 0 {
+					b.union(m, o)
+				}
+			})
+		}
+	}
+}
+
+func (b *builder) joinStructures() {
+	for si, s := range b.c.Structures {
+		xy := b.proj.xy(s.Point)
+		m := b.newMember(member{part: -1, ll: s.Point, xy: xy, kind: memStructure, ref: si}, true)
+		joined := false
+		b.nearParts(xy, b.snap, -1, func(q int, segIDs []int32) {
+			if o := b.locate(q, segIDs, xy, b.snap); o >= 0 && b.union(m, o) {
+				joined = true
+			}
+		})
+		if !joined {
+			b.warns = append(b.warns, warnRec{s.Source, s.ID,
+				fmt.Sprintf("structure %q is not within %s m of any pathway (or another structure or entrance is there); it is not a junction", s.ID, fmtM(b.snap))})
+		}
+	}
+}
+
+func (b *builder) joinEntrances() {
+	b.entMem = make([]int, len(b.c.Entrances))
+	b.entOn = make([]bool, len(b.c.Entrances))
+	for ei, e := range b.c.Entrances {
+		xy := b.proj.xy(e.Point)
+		m := b.newMember(member{part: -1, ll: e.Point, xy: xy, kind: memEntrance, ref: ei}, true)
+		b.entMem[ei] = m
+		b.nearParts(xy, b.snap, -1, func(q int, segIDs []int32) {
+			if o := b.locate(q, segIDs, xy, b.snap); o >= 0 && b.union(m, o) {
+				b.entOn[ei] = true
+			}
+		})
+	}
+}
+
+// nearest returns the nearest place on any pathway to xy within r: its segment and parameter.
+func (b *builder) nearest(xy vec, r float64) (seg int, t, d float64, ok bool) {
+	lo, hi := around(xy, r)
+	b.buf = b.segGrid.query(lo, hi, b.buf)
+	best := math.Inf(1)
+	for _, s := range b.buf {
+		sr := b.segs[s]
+		p := &b.parts[sr.part]
+		if tt, d2 := closestOnSeg(xy, p.xy[sr.i], p.xy[sr.i+1]); d2 < best {
+			best, seg, t = d2, int(s), tt
+		}
+	}
+	if math.Sqrt(best) > r {
+		return 0, 0, 0, false
+	}
+	return seg, t, math.Sqrt(best), true
+}
+
+// target turns a place on a pathway into a member that must become a junction, preferring a
+// vertex within SnapM.
+func (b *builder) target(seg int, t float64) int {
+	sr := b.segs[seg]
+	p := &b.parts[sr.part]
+	at := lerp(p.xy[sr.i], p.xy[sr.i+1], t)
+	d0, d1 := at.dist(p.xy[sr.i]), at.dist(p.xy[sr.i+1])
+	var m int
+	switch {
+	case d0 <= b.snap && d0 <= d1:
+		m = p.v0 + sr.i
+	case d1 <= b.snap:
+		m = p.v0 + sr.i + 1
+	default:
+		m = b.split(sr.part, sr.i, t)
+	}
+	b.mem[m].force = true
+	return m
+}
+
+func (b *builder) planAccess() {
+	c := b.c
+	byBuilding := make(map[string][]int)
+	for ei, e := range c.Entrances {
+		byBuilding[e.Building] = append(byBuilding[e.Building], ei)
+	}
+	b.plans = make([]accessPlan, len(c.Buildings))
+	for bi, bl := range c.Buildings {
+		if ents := byBuilding[bl.ID]; len(ents) > 0 {
+			b.plans[bi] = b.planEntrance(bl, ents)
+			continue
+		}
+		f := &b.feet[bi]
+		if f.empty() {
+			b.add(bl.Source, bl.ID, "", problemf(ErrUnreachable, "no footprint and no entrance"))
+			continue
+		}
+		var cands []int
+		lo, hi := f.lo.sub(vec{b.snap, b.snap}), f.hi.add(vec{b.snap, b.snap})
+		b.buf = b.vtxGrid.query(lo, hi, b.buf)
+		for _, v := range b.buf {
+			m := b.mem[v]
+			if m.seg != 0 && m.seg != len(b.parts[m.part].xy)-1 {
+				continue
+			}
+			if f.contains(m.xy) {
+				cands = append(cands, int(v))
+			} else if _, d := f.nearestBoundary(m.xy); d <= b.snap {
+				cands = append(cands, int(v))
+			}
+		}
+		if len(cands) > 0 {
+			b.plans[bi] = accessPlan{via: ViaFootprint, target: -1, cands: cands}
+			continue
+		}
+		lo, hi = f.lo.sub(vec{b.maxLat, b.maxLat}), f.hi.add(vec{b.maxLat, b.maxLat})
+		b.buf = b.segGrid.query(lo, hi, b.buf)
+		best, bestSeg, bestT := math.Inf(1), -1, 0.0
+		for _, s := range b.buf {
+			sr := b.segs[s]
+			p := &b.parts[sr.part]
+			if d, t := f.segDist(p.xy[sr.i], p.xy[sr.i+1]); d < best {
+				best, bestSeg, bestT = d, int(s), t
+			}
+		}
+		if bestSeg < 0 || best > b.maxLat {
+			b.add(bl.Source, bl.ID, "", problemf(ErrUnreachable, "no pathway within %s m of the footprint (MaxLateralM)", fmtM(b.maxLat)))
+			continue
+		}
+		b.plans[bi] = accessPlan{via: ViaLateral, target: b.target(bestSeg, bestT)}
+	}
+}
+
+func (b *builder) planEntrance(bl Building, ents []int) accessPlan {
+	on := -1
+	for _, ei := range ents {
+		if b.entOn[ei] && (on < 0 || b.entIDs[ei] < b.entIDs[on]) {
+			on = ei
+		}
+	}
+	if on >= 0 {
+		return accessPlan{via: ViaEntrance, target: b.entMem[on], entrance: on}
+	}
+	best, bestE, bestSeg, bestT := math.Inf(1), -1, 0, 0.0
+	for _, ei := range ents {
+		if seg, t, d, ok := b.nearest(b.mem[b.entMem[ei]].xy, b.maxLat); ok && d < best {
+			best, bestE, bestSeg, bestT = d, ei, seg, t
+		}
+	}
+	if bestE < 0 {
+		b.add(bl.Source, bl.ID, "", problemf(ErrUnreachable, "no pathway within %s m of its entrance (MaxLateralM)", fmtM(b.maxLat)))
+		return accessPlan{}
+	}
+	return accessPlan{via: ViaEntrance, target: b.target(bestSeg, bestT), entrance: bestE,
+		from: b.c.Entrances[bestE].Point, lateral: true}
+}
+
+// cut finds the junction positions along every part and the pieces between them.
+func (b *builder) cut() {
+	multi := make(map[int]bool)
+	firstPart := make(map[int]int)
+	for i, m := range b.mem {
+		if m.part < 0 {
+			continue
+		}
+		r := b.find(i)
+		if fp, ok := firstPart[r]; !ok {
+			firstPart[r] = m.part
+		} else if fp != m.part {
+			multi[r] = true
+		}
+	}
+	worthy := func(i int) bool {
+		m := b.mem[i]
+		r := b.find(i)
+		if m.force || multi[r] || b.labeled[r] {
+			return true
+		}
+		return m.kind == memVertex && (m.seg == 0 || m.seg == len(b.parts[m.part].xy)-1)
+	}
+
+	// A junction's point is its structure's or entrance's, else that of its westernmost (then
+	// southernmost) input vertex, else its split point.
+	b.rep = make(map[int]orb.Point)
+	named := make(map[int]bool)
+	repVertex := make(map[int]bool)
+	for i, m := range b.mem {
+		if m.part < 0 {
+			r := b.find(i)
+			b.rep[r], named[r] = m.ll, true
+		}
+	}
+	for i, m := range b.mem {
+		r := b.find(i)
+		if m.part < 0 || named[r] {
+			continue
+		}
+		cur, has := b.rep[r]
+		isV := m.kind == memVertex
+		if !has || (isV && !repVertex[r]) || (isV == repVertex[r] && lessLL(m.ll, cur)) {
+			b.rep[r], repVertex[r] = m.ll, isV
+		}
+	}
+
+	b.entries = make([][]entry, len(b.parts))
+	three := 3 * b.snap
+	for pi := range b.parts {
+		p := &b.parts[pi]
+		var es []entry
+		for v := range p.xy {
+			if worthy(p.v0 + v) {
+				es = append(es, entry{seg: v, m: p.v0 + v, along: p.cum[v]})
+			}
+		}
+		for _, m := range b.splits[pi] {
+			if worthy(m) {
+				mm := b.mem[m]
+				es = append(es, entry{seg: mm.seg, t: mm.t, m: m, along: p.along(mm.seg, mm.t)})
+			}
+		}
+		sort.Slice(es, func(i, j int) bool {
+			if es[i].seg != es[j].seg {
+				return es[i].seg < es[j].seg
+			}
+			if es[i].t != es[j].t {
+				return es[i].t < es[j].t
+			}
+			return es[i].m < es[j].m
+		})
+		kept := es[:0]
+		for _, e := range es {
+			if n := len(kept); n > 0 && kept[n-1].seg == e.seg && kept[n-1].t == e.t && b.find(kept[n-1].m) == b.find(e.m) {
+				continue
+			}
+			kept = append(kept, e)
+		}
+		b.entries[pi] = kept
+		for k := 1; k < len(kept); k++ {
+			e1, e2 := kept[k-1], kept[k]
+			r1, r2 := b.find(e1.m), b.find(e2.m)
+			if r1 == r2 && e2.along-e1.along < three {
+				continue
+			}
+			pts := orb.LineString{b.rep[r1]}
+			j1 := e2.seg
+			if e2.t == 0 {
+				j1--
+			}
+			for j := e1.seg + 1; j <= j1; j++ {
+				pts = append(pts, p.ll[j])
+			}
+			pts = append(pts, b.rep[r2])
+			b.pieces = append(b.pieces, piece{part: pi, from: r1, to: r2, pts: b.clean(pts)})
+		}
+	}
+}
+
+// clean drops vertices within a millimetre of the one before (keeping both ends), so that
+// bends are not measured on specks.
+func (b *builder) clean(pts orb.LineString) orb.LineString {
+	out := pts[:1]
+	for i := 1; i < len(pts); i++ {
+		last := i == len(pts)-1
+		if b.proj.xy(pts[i]).dist(b.proj.xy(out[len(out)-1])) < 1e-3 {
+			if last && len(out) > 1 {
+				out[len(out)-1] = pts[i]
+			}
+			continue
+		}
+		out = append(out, pts[i])
+	}
+	if len(out) == 1 {
+		out = append(out, pts[len(pts)-1])
+	}
+	return out
+}
+
+func lessLL(a, b orb.Point) bool {
+	if a[0] != b[0] {
+		return a[0] < b[0]
+	}
+	return a[1] < b[1]
+}
+
+// number names every junction that a piece or an access uses.
+func (b *builder) number() {
+	used := make(map[int]bool)
+	for _, pc := range b.pieces {
+		used[pc.from], used[pc.to] = true, true
+	}
+	for _, pl := range b.plans {
+		if pl.target >= 0 && pl.via != "" && pl.via != ViaFootprint {
+			used[b.find(pl.target)] = true
+		}
+	}
+	b.ids = make(map[int]string)
+	declared := make(map[string]bool)
+	for _, bl := range b.c.Buildings {
+		declared[bl.ID] = true
+	}
+	for _, pw := range b.c.Pathways {
+		declared[pw.ID] = true
+	}
+	for _, s := range b.c.Structures {
+		declared[s.ID] = true
+	}
+	for _, id := range b.entIDs {
+		declared[id] = true
+	}
+	for i, m := range b.mem {
+		r := b.find(i)
+		if !used[r] {
+			continue
+		}
+		switch m.kind {
+		case memStructure:
+			b.ids[r] = b.c.Structures[m.ref].ID
+		case memEntrance:
+			b.ids[r] = b.entIDs[m.ref]
+		}
+	}
+	type unnamed struct {
+		root     int
+		lon, lat int64
+		tie      string
+	}
+	tie := make(map[int]string)
+	for i, m := range b.mem {
+		r := b.find(i)
+		if !used[r] || m.part < 0 {
+			continue
+		}
+		if _, named := b.ids[r]; named {
+			continue
+		}
+		p := b.parts[m.part]
+		k := fmt.Sprintf("%s\x00%09d\x00%09d\x00%.12f", b.c.Pathways[p.pw].ID, p.k, m.seg, m.t)
+		if cur, ok := tie[r]; !ok || k < cur {
+			tie[r] = k
+		}
+	}
+	var list []unnamed
+	for r := range used {
+		if _, named := b.ids[r]; named {
+			continue
+		}
+		pt := b.rep[r]
+		list = append(list, unnamed{r, int64(math.Round(pt[0] * 1e7)), int64(math.Round(pt[1] * 1e7)), tie[r]})
+	}
+	sort.Slice(list, func(i, j int) bool {
+		a, c := list[i], list[j]
+		if a.lon != c.lon {
+			return a.lon < c.lon
+		}
+		if a.lat != c.lat {
+			return a.lat < c.lat
+		}
+		if a.tie != c.tie {
+			return a.tie < c.tie
+		}
+		return a.root < c.root
+	})
+	width := max(4, len(strconv.Itoa(len(list)+len(declared))))
+	n := 0
+	for _, u := range list {
+		var id string
+		for {
+			n++
+			id = JunctionPrefix + fmt.Sprintf("%0*d", width, n)
+			if !declared[id] {
+				break
+			}
+		}
+		b.ids[u.root] = id
+	}
+}
+
+func (b *builder) spans(n *Network) {
+	count := make(map[int]int)
+	for _, pc := range b.pieces {
+		count[b.parts[pc.part].pw]++
+	}
+	seq := make(map[int]int)
+	for _, pc := range b.pieces {
+		p := b.parts[pc.part]
+		pw := b.c.Pathways[p.pw]
+		id := pw.ID
+		if count[p.pw] > 1 {
+			seq[p.pw]++
+			id = pw.ID + "/" + strconv.Itoa(seq[p.pw])
+		}
+		var bends []float64
+		if len(pc.pts) > 2 {
+			bends = make([]float64, 0, len(pc.pts)-2)
+			for i := 1; i < len(pc.pts)-1; i++ {
+				bends = append(bends, deflectionDeg(b.proj.xy(pc.pts[i-1]), b.proj.xy(pc.pts[i]), b.proj.xy(pc.pts[i+1])))
+			}
+		}
+		n.Spans = append(n.Spans, Span{
+			ID: id, PathwayID: pw.ID, From: b.ids[pc.from], To: b.ids[pc.to],
+			LengthM: LengthM(pc.pts), Type: pw.Type, Status: pw.Status, EMI: pw.EMI,
+			Surface: pw.Surface, Group: pw.Group, SpareDucts: pw.SpareDucts, DuctMM: pw.DuctMM,
+			BendsDeg: bends, Line: pc.pts,
+		})
+	}
+	sort.Slice(n.Spans, func(i, j int) bool { return n.Spans[i].ID < n.Spans[j].ID })
+	for i := 1; i < len(n.Spans); i++ {
+		if n.Spans[i].ID == n.Spans[i-1].ID {
+			s := n.Spans[i]
+			pw := b.pathway(s.PathwayID)
+			b.add(pw.Source, pw.ID, PropID, problemf(ErrDuplicateID, "span id %q is used twice", s.ID))
+		}
+	}
+}
+
+func (b *builder) pathway(id string) Pathway {
+	for _, pw := range b.c.Pathways {
+		if pw.ID == id {
+			return pw
+		}
+	}
+	return Pathway{}
+}
+
+func (b *builder) junctions(n *Network) {
+	roots := make([]int, 0, len(b.ids))
+	for r := range b.ids {
+		roots = append(roots, r)
+	}
+	sort.Ints(roots)
+	kind := make(map[int]Junction)
+	for i, m := range b.mem {
+		r := b.find(i)
+		if _, ok := b.ids[r]; !ok {
+			continue
+		}
+		switch m.kind {
+		case memStructure:
+			s := b.c.Structures[m.ref]
+			kind[r] = Junction{Kind: JunctionStructure, StructureType: s.Type}
+		case memEntrance:
+			kind[r] = Junction{Kind: JunctionEntrance}
+		}
+	}
+	for _, r := range roots {
+		j, ok := kind[r]
+		if !ok {
+			j.Kind = JunctionNode
+		}
+		j.ID, j.Point = b.ids[r], b.rep[r]
+		n.Junctions = append(n.Junctions, j)
+	}
+	sort.Slice(n.Junctions, func(i, j int) bool { return n.Junctions[i].ID < n.Junctions[j].ID })
+	for i := 1; i < len(n.Junctions); i++ {
+		if n.Junctions[i].ID == n.Junctions[i-1].ID {
+			b.errs.Add(problemf(ErrDuplicateID, "geo: junction id %q is used twice", n.Junctions[i].ID))
+		}
+	}
+}
+
+func (b *builder) access(n *Network) {
+	degree := make(map[string]int)
+	for _, s := range n.Spans {
+		degree[s.From]++
+		degree[s.To]++
+	}
+	for bi, bl := range b.c.Buildings {
+		pl := b.plans[bi]
+		a := Access{Building: bl.ID, Via: pl.via}
+		switch pl.via {
+		case ViaFootprint:
+			best := ""
+			for _, m := range pl.cands {
+				id, ok := b.ids[b.find(m)]
+				if !ok {
+					continue
+				}
+				if best == "" || degree[id] > degree[best] || (degree[id] == degree[best] && id < best) {
+					best = id
+				}
+			}
+			if best == "" {
+				b.add(bl.Source, bl.ID, "", problemf(ErrUnreachable, "the pathway ends on the footprint were dropped as shorter than 3×SnapM"))
+				continue
+			}
+			a.Junction = best
+		case ViaEntrance, ViaLateral:
+			r := b.find(pl.target)
+			a.Junction = b.ids[r]
+			end := b.rep[r]
+			from := pl.from
+			has := pl.lateral
+			if pl.via == ViaLateral {
+				f := &b.feet[bi]
+				if xy := b.proj.xy(end); !f.contains(xy) {
+					from, _ = f.nearestBoundary(xy)
+					has = true
+				}
+			}
+			if has {
+				if d := DistanceM(from, end); d > 0 {
+					a.LateralM = d
+					a.Lateral = orb.LineString{from, end}
+				}
+			}
+			if a.LateralM > b.maxLat {
+				what := "footprint"
+				if pl.via == ViaEntrance {
+					what = "entrance"
+				}
+				b.add(bl.Source, bl.ID, "", problemf(ErrUnreachable, "no pathway within %s m of the %s (MaxLateralM); nearest is %s m",
+					fmtM(b.maxLat), what, fmtM(a.LateralM)))
+				continue
+			}
+		default:
+			continue // already reported
+		}
+		n.Access = append(n.Access, a)
+	}
+	sort.Slice(n.Access, func(i, j int) bool { return n.Access[i].Building < n.Access[j].Building })
+}
+
+// crossings warns about pathways that cross with no junction where they cross.
+func (b *builder) crossings() {
+	type crossing struct {
+		pa, pb int // parts, pa's pathway id < pb's
+		along  float64
+		at     orb.Point
+	}
+	var found []crossing
+	tol := 2*b.snap + 1e-6
+	var ids []int32
+	for s, sr := range b.segs {
+		p := &b.parts[sr.part]
+		a, c := p.xy[sr.i], p.xy[sr.i+1]
+		lo := vec{math.Min(a.x, c.x), math.Min(a.y, c.y)}
+		hi := vec{math.Max(a.x, c.x), math.Max(a.y, c.y)}
+		ids = b.segGrid.query(lo, hi, ids)
+		for _, o := range ids {
+			if int(o) <= s {
+				continue
+			}
+			or := b.segs[o]
+			q := &b.parts[or.part]
+			if q.pw == p.pw {
+				continue
+			}
+			t, u, ok := segIntersect(a, c, q.xy[or.i], q.xy[or.i+1])
+			if !ok {
+				continue
+			}
+			alongP, alongQ := p.along(sr.i, t), q.along(or.i, u)
+			if b.joinedNear(sr.part, alongP, or.part, alongQ, tol) {
+				continue
+			}
+			cr := crossing{pa: sr.part, pb: or.part, along: alongP, at: lerpLL(p.ll[sr.i], p.ll[sr.i+1], t)}
+			if b.c.Pathways[q.pw].ID < b.c.Pathways[p.pw].ID {
+				cr = crossing{pa: or.part, pb: sr.part, along: alongQ, at: lerpLL(q.ll[or.i], q.ll[or.i+1], u)}
+			}
+			found = append(found, cr)
+		}
+	}
+	sort.Slice(found, func(i, j int) bool {
+		x, y := found[i], found[j]
+		if x.pa != y.pa {
+			return x.pa < y.pa
+		}
+		if x.pb != y.pb {
+			return x.pb < y.pb
+		}
+		return x.along < y.along
+	})
+	for i, cr := range found {
+		if i > 0 {
+			pr := found[i-1]
+			if pr.pa == cr.pa && pr.pb == cr.pb && cr.along-pr.along <= tol {
+				continue
+			}
+		}
+		pa, pb := b.c.Pathways[b.parts[cr.pa].pw], b.c.Pathways[b.parts[cr.pb].pw]
+		b.warns = append(b.warns, warnRec{pa.Source, pa.ID, fmt.Sprintf(
+			"pathways %q and %q cross at %s, %s with no shared vertex or structure; they are not joined there",
+			pa.ID, pb.ID, fmtLL(cr.at[0]), fmtLL(cr.at[1]))})
+	}
+}
+
+// joinedNear reports whether parts p and q share a junction within tol (along each) of the
+// given positions.
+func (b *builder) joinedNear(p int, alongP float64, q int, alongQ float64, tol float64) bool {
+	near := func(pi int, along float64) []int {
+		es := b.entries[pi]
+		k := sort.Search(len(es), func(i int) bool { return es[i].along >= along-tol })
+		var roots []int
+		for ; k < len(es) && es[k].along <= along+tol; k++ {
+			roots = append(roots, b.find(es[k].m))
+		}
+		return roots
+	}
+	rq := near(q, alongQ)
+	for _, r := range near(p, alongP) {
+		for _, s := range rq {
+			if r == s {
+				return true
+			}
+		}
+	}
+	return false
+}
+
+func (b *builder) warnings() []Warning {
+	sort.SliceStable(b.warns, func(i, j int) bool {
+		x, y := b.warns[i], b.warns[j]
+		if x.src.File != y.src.File {
+			return x.src.File < y.src.File
+		}
+		if x.src.Index != y.src.Index {
+			return x.src.Index < y.src.Index
+		}
+		return x.msg < y.msg
+	})
+	var out []Warning
+	for _, w := range b.warns {
+		feat := fmt.Sprintf("#%d", w.src.Index)
+		if w.id != "" {
+			feat += " (" + w.id + ")"
+		}
+		out = append(out, Warning{File: w.src.File, Feature: feat, Message: w.msg})
+	}
+	return out
+}
+
+// fmtM prints a length in metres for a message.
+func fmtM(x float64) string { return strconv.FormatFloat(x, 'f', -1, 64) }
+
+// fmtLL prints a longitude or latitude to 7 decimals (about 1 cm).
+func fmtLL(x float64) string { return strconv.FormatFloat(x, 'f', 7, 64) }
