@@ -1,0 +1,123 @@
+package optimize
+
+import "math"
+
+// NFPA 70 Chapter 9 Table 1: the share of a conduit's internal cross-section that its cables may
+// fill (seen).
+const (
+	FillOneCable   = 0.53 // one cable
+	FillTwoCables  = 0.31 // two cables
+	FillMoreCables = 0.40 // three or more cables
+)
+
+// FillLimit returns the NFPA 70 Chapter 9 Table 1 fill fraction for n cables in one duct.
+func FillLimit(n int) float64 {
+	switch {
+	case n <= 1:
+		return FillOneCable
+	case n == 2:
+		return FillTwoCables
+	}
+	return FillMoreCables
+}
+
+// ductPack is the state of first-fit packing of cables into ducts of one diameter.
+type ductPack struct {
+	areaMM2 float64   // one duct's internal area
+	count   []int     // cables per duct
+	used    []float64 // cable area per duct, mm²
+}
+
+func circleMM2(dMM float64) float64 { return math.Pi / 4 * dMM * dMM }
+
+// place puts a cable of area a into the first duct that stays within FillLimit, opening a new
+// duct when none does; it returns false when the cable does not fit even an empty duct.
+func (p *ductPack) place(a float64) bool {
+	for j := range p.count {
+		if p.used[j]+a <= FillLimit(p.count[j]+1)*p.areaMM2+1e-9 {
+			p.count[j]++
+			p.used[j] += a
+			return true
+		}
+	}
+	if a > FillOneCable*p.areaMM2+1e-9 {
+		return false
+	}
+	p.count = append(p.count, 1)
+	p.used = append(p.used, a)
+	return true
+}
+
+// NFPAFits reports whether cables of the given outside diameters (mm) fit in ducts ducts of
+// internal diameter ductIDMM, placing them first-fit in the given order and holding each duct to
+// the NFPA 70 Chapter 9 Table 1 fill for its cable count (53 % one, 31 % two, 40 % three or more).
+// First-fit in a fixed order is a packing rule, not an optimal bin packing: it may use a duct
+// more than the best arrangement would.
+func NFPAFits(ductIDMM float64, cableODsMM []float64, ducts int) bool {
+	p := ductPack{areaMM2: circleMM2(ductIDMM)}
+	for _, od := range cableODsMM {
+		if !p.place(circleMM2(od)) || len(p.count) > ducts {
+			return false
+		}
+	}
+	return true
+}
+
+// capacity computes, for capacity-limited edges, how many ducts a set of cables needs.
+type capacity struct {
+	edges []Edge
+	fits  FitsFunc // nil: the NFPA first-fit rule, computed in one pass
+	buf   []float64
+}
+
+// needed returns how many ducts must be added to edge e for cables of the given ODs, pulled
+// in that order: the ducts added are never removed, so it is the most any prefix of the pull
+// needs. ok is false when the cables cannot all be pulled (a cable wider than a duct allows,
+// or full ducts on an edge where none can be added).
+func (c *capacity) needed(e int, ods []float64) (added int, ok bool) {
+	ed := &c.edges[e]
+	maxAdd := 0
+	if ed.AddDuctPerMCents > 0 {
+		maxAdd = len(ods)
+	}
+	if c.fits == nil {
+		p := ductPack{areaMM2: circleMM2(ed.DuctIDMM)}
+		for _, od := range ods {
+			if od <= 0 {
+				continue
+			}
+			if !p.place(circleMM2(od)) {
+				return 0, false
+			}
+		}
+		added = max(0, len(p.count)-ed.Ducts)
+		return added, added <= maxAdd
+	}
+	for i := range ods {
+		for !c.fits(e, ods[:i+1], ed.Ducts+added) {
+			added++
+			if added > maxAdd {
+				return 0, false
+			}
+		}
+	}
+	return added, true
+}
+
+// allowedArea returns the cables' area and the NFPA area allowed in the ducts they occupy,
+// packing first-fit in order, in mm².
+func allowedArea(ductIDMM float64, ods []float64) (usedMM2, allowedMM2 float64) {
+	p := ductPack{areaMM2: circleMM2(ductIDMM)}
+	for _, od := range ods {
+		a := circleMM2(od)
+		usedMM2 += a
+		if od > 0 && !p.place(a) {
+			p.count = append(p.count, 1)
+			p.used = append(p.used, a)
+		}
+	}
+	for _, n := range p.count {
+		allowedMM2 += FillLimit(n) * p.areaMM2
+	}
+	return usedMM2, allowedMM2
+}

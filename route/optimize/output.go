@@ -1,0 +1,201 @@
+package optimize
+
+import (
+	"fmt"
+	"strings"
+)
+
+// solution turns the final state into a Solution, splitting the cost per demand.
+func (sv *solver) solution() *Solution {
+	p, st := sv.p, sv.st
+	sol := &Solution{Routes: make([]Route, len(p.Demands)), Rounds: sv.rounds}
+	for d := range p.Demands {
+		dm := &p.Demands[d]
+		r := &sol.Routes[d]
+		r.Demand, r.ID, r.Option = d, dm.ID, -1
+		c := st.ch[d]
+		if c.opt < 0 {
+			sol.Infeasible = append(sol.Infeasible, Infeasible{Demand: d, ID: dm.ID, Reason: sv.reason(d)})
+			continue
+		}
+		op := &dm.Options[c.opt]
+		r.Feasible, r.Option, r.Medium = true, c.opt, op.Name
+		legs := make([]Leg, len(c.legs))
+		for i, hops := range c.legs {
+			if sv.from[d] != dm.Source {
+				hops = reverseHops(hops)
+			}
+			legs[i] = Leg{Hops: hops}
+			for _, h := range hops {
+				e := &p.Edges[h.Edge]
+				legs[i].LengthM += e.LengthM
+				r.Cost.CableCents += centsFor(e.LengthM, op.CablePerMCents)
+				r.Cost.LabourCents += centsFor(e.LengthM, e.LabourPerMCents)
+			}
+			sol.TotalM += legs[i].LengthM
+		}
+		if len(legs) == 2 && sv.legLess(legs[1], legs[0], op) {
+			legs[0], legs[1] = legs[1], legs[0]
+		}
+		r.Primary = legs[0]
+		if len(legs) == 2 {
+			r.Secondary = legs[1]
+		} else if dm.Diverse {
+			r.SinglePoint, r.Note = sv.singlePoint(d, c.opt)
+		}
+		r.Cost.FixedCents = op.FixedCents
+	}
+	// Construction shares and added ducts, edge by edge.
+	for e := range p.Edges {
+		users := st.users[e]
+		if p.Edges[e].Proposed && len(users) > 0 {
+			sol.Opened = append(sol.Opened, e)
+			f := p.Edges[e].FixedCents
+			n := int64(len(users))
+			share := f / n
+			for i, u := range users {
+				c := share
+				if i == 0 {
+					c += f - share*n
+				}
+				sol.Routes[u].Cost.ConstructionShareCents += c
+			}
+		}
+		if st.count[e] == 0 {
+			continue
+		}
+		fill := EdgeFill{Edge: e, Cables: int(st.count[e]), Limited: sv.limited[e]}
+		if sv.limited[e] {
+			ed := &p.Edges[e]
+			ods := make([]float64, len(users))
+			for i, u := range users {
+				ods[i] = sv.od(int(u), st.ch[u].opt)
+			}
+			fill.Ducts, fill.AddedDucts = ed.Ducts, st.added[e]
+			fill.UsedAreaMM2, fill.AllowedAreaMM2 = allowedArea(ed.DuctIDMM, ods)
+			prev := 0
+			for i := range ods {
+				k, ok := sv.cap.needed(e, ods[:i+1])
+				if !ok {
+					k = prev
+				}
+				if k > prev {
+					sol.Routes[users[i]].Cost.AddedDuctCents += int64(k-prev) * sv.ductCent[e]
+					prev = k
+				}
+			}
+		}
+		sol.Fill = append(sol.Fill, fill)
+	}
+	for d := range sol.Routes {
+		sol.TotalCents += sol.Routes[d].Cost.Total()
+	}
+	return sol
+}
+
+// legLess orders the legs of a pair: cheaper first, then shorter, then by first edge.
+func (sv *solver) legLess(a, b Leg, op *Option) bool {
+	cost := func(l Leg) int64 {
+		var c int64
+		for _, h := range l.Hops {
+			e := &sv.p.Edges[h.Edge]
+			c += centsFor(e.LengthM, op.CablePerMCents) + centsFor(e.LengthM, e.LabourPerMCents) + e.FixedCents
+		}
+		return c
+	}
+	ca, cb := cost(a), cost(b)
+	if ca != cb {
+		return ca < cb
+	}
+	la, lb := hopsLenMM(sv.net, a.Hops), hopsLenMM(sv.net, b.Hops)
+	if la != lb {
+		return la < lb
+	}
+	return a.Hops[0].Edge < b.Hops[0].Edge
+}
+
+func reverseHops(hops []Hop) []Hop {
+	out := make([]Hop, len(hops))
+	for i, h := range hops {
+		out[len(hops)-1-i] = Hop{Edge: h.Edge, Forward: !h.Forward}
+	}
+	return out
+}
+
+// reason explains why demand d has no route, option by option.
+func (sv *solver) reason(d int) string {
+	if sv.invalid[d] != "" {
+		return sv.invalid[d]
+	}
+	dm := &sv.p.Demands[d]
+	s, t := sv.from[d], sv.to[d]
+	var msgs []string
+	for o := range dm.Options {
+		op := &dm.Options[o]
+		name := fmt.Sprintf("option %d (%q)", o, op.Name)
+		excl := op.ExcludeFlags
+		comp := sv.net.components(func(e int) bool { return sv.usable(e, excl) })
+		lt := sv.lenTree(t, excl)
+		switch {
+		case comp[s] != comp[t] && excl != 0:
+			msgs = append(msgs, fmt.Sprintf("%s: no pathway joins node %d to node %d avoiding flags %#x", name, dm.Source, dm.Target, excl))
+		case comp[s] != comp[t]:
+			msgs = append(msgs, fmt.Sprintf("%s: no pathway joins node %d to node %d", name, dm.Source, dm.Target))
+		case lt.dist[s] > sv.reach[d][o]:
+			msgs = append(msgs, fmt.Sprintf("%s: shortest route %.3f m exceeds reach %.3f m", name, float64(lt.dist[s])/mmPerM, op.MaxRouteM))
+		default:
+			msgs = append(msgs, fmt.Sprintf("%s: every route within reach crosses ducts too full for the cable", name))
+		}
+	}
+	return strings.Join(msgs, "; ")
+}
+
+// singlePoint explains why diverse demand d got one leg, for its option o.
+func (sv *solver) singlePoint(d, o int) (*SinglePoint, string) {
+	s, t := sv.from[d], sv.to[d]
+	base := sv.profBase[sv.optProf[d][o]]
+	w := func(e int32) (int64, bool) { return base[e], base[e] >= 0 }
+	res := disjointPair(sv.ps, s, t, w)
+	if !res.ok {
+		if !res.found1 {
+			return nil, "no route for a diverse pair"
+		}
+		cut := res.cut
+		var what string
+		if cut.Kind == PointEdge {
+			what = fmt.Sprintf("edge %d (%q)", cut.Index, sv.p.Edges[cut.Index].ID)
+		} else {
+			what = fmt.Sprintf("node %d", cut.Index)
+		}
+		return &cut, "every route passes " + what
+	}
+	g := sv.sharedGroup(res.legs)
+	if g == 0 {
+		return nil, "a diverse pair exists but none fits the reach of any medium or the ducts' capacity"
+	}
+	// Does some group on the pair separate s from t on its own?
+	gs := sv.groupsOf(res.legs[0])
+	for _, cand := range gs {
+		if !slicesContains(sv.groupsOf(res.legs[1]), cand) {
+			continue
+		}
+		if !sv.srch.run(s, t, func(e int32) (int64, bool) {
+			if sv.p.Edges[e].Group == cand {
+				return 0, false
+			}
+			return w(e)
+		}, nil) {
+			return &SinglePoint{Kind: PointGroup, Index: cand, Separates: true}, fmt.Sprintf("every route passes shared-risk group %d", cand)
+		}
+	}
+	return &SinglePoint{Kind: PointGroup, Index: g}, fmt.Sprintf("every diverse pair found shares group %d (group-disjoint routing is a heuristic here)", g)
+}
+
+func slicesContains(s []int, v int) bool {
+	for _, x := range s {
+		if x == v {
+			return true
+		}
+	}
+	return false
+}

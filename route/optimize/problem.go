@@ -1,0 +1,270 @@
+package optimize
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"strings"
+)
+
+// Edge flags that an Option may exclude through Option.ExcludeFlags. Bits above these are free
+// for the caller to define.
+const (
+	// FlagHighEMI marks an edge that runs near a strong source of electromagnetic interference.
+	FlagHighEMI uint64 = 1 << iota
+	// FlagOutdoor marks an edge that runs outside a building.
+	FlagOutdoor
+)
+
+// Edge is one span of the pathway network. Parallel edges between the same nodes are allowed.
+type Edge struct {
+	ID       string
+	From, To int // node indices, 0-based, in [0, Problem.Nodes)
+
+	LengthM float64 // span length in metres, finite and >= 0
+
+	// LabourPerMCents is the installation labour per metre per cable on this edge, in cents;
+	// it depends on the pathway type.
+	LabourPerMCents int64
+
+	// Proposed marks an edge that does not exist yet. It can be used only when Problem.AllowNew
+	// is set, and using it opens it: FixedCents (trench or bore, structures) is paid once,
+	// however many cables use it.
+	Proposed   bool
+	FixedCents int64
+
+	// Group is the shared-risk group (duct bank, trench) of the edge; edges with the same
+	// Group > 0 fail together. Group 0 means the edge shares its risk with no other edge.
+	Group int
+
+	// Flags holds FlagHighEMI, FlagOutdoor and caller-defined bits.
+	Flags uint64
+
+	// Ducts is the number of spare ducts of internal diameter DuctIDMM (millimetres) on an
+	// existing edge. An edge with DuctIDMM == 0, or a proposed edge (built to size), has
+	// unlimited capacity. Ducts == 0 with DuctIDMM > 0 is an edge whose ducts are full.
+	Ducts    int
+	DuctIDMM float64
+
+	// AddDuctPerMCents is the price, in cents per metre, of adding one duct of DuctIDMM
+	// along this edge when its spare ducts are full; 0 means no duct can be added.
+	AddDuctPerMCents int64
+}
+
+// limited reports whether the edge's capacity is checked.
+func (e *Edge) limited() bool { return !e.Proposed && e.DuctIDMM > 0 }
+
+// Option is one candidate medium for a demand.
+type Option struct {
+	Name string
+
+	// CablePerMCents is the cable price per metre for the demand's strand count, in cents.
+	CablePerMCents int64
+
+	// FixedCents is the route-independent cost of the option (terminations, transceivers), in cents.
+	FixedCents int64
+
+	// MaxRouteM is the longest route, in metres, that the medium reaches along pathways (the
+	// caller has already taken off risers and slack); math.Inf(1) or 0 means no limit.
+	MaxRouteM float64
+
+	// ExcludeFlags lists edge flags the medium may not run on (e.g. FlagHighEMI for copper).
+	ExcludeFlags uint64
+
+	// CableODMM is the cable's outside diameter in millimetres, used for duct fill; 0 means
+	// the cable takes no duct area.
+	CableODMM float64
+}
+
+// Demand is one link to route from Source to Target, with the media that may carry it.
+type Demand struct {
+	ID             string
+	Source, Target int // node indices, 0-based
+
+	// Diverse asks for a second route that shares no edge, no interior node and no
+	// shared-risk group with the first.
+	Diverse bool
+
+	Options []Option
+}
+
+// FitsFunc reports whether cables of the given outside diameters (millimetres, in demand order)
+// can be pulled into ducts ducts of edge edge (an index into Problem.Edges). It must be
+// deterministic and must not return false for a set that fits in fewer ducts.
+type FitsFunc func(edge int, cableODsMM []float64, ducts int) bool
+
+// Problem is one routing problem: the network, the demands and the rules that apply to all.
+type Problem struct {
+	Nodes   int
+	Edges   []Edge
+	Demands []Demand
+
+	// AllowNew lets routes use (and open) proposed edges.
+	AllowNew bool
+
+	// Fits decides duct fill on capacity-limited edges; nil means NFPAFits.
+	Fits FitsFunc
+}
+
+// Objective names for Settings.Objective.
+const (
+	ObjectiveCost   = "cost"   // minimise the plan cost in cents (the default)
+	ObjectiveLength = "length" // minimise total route metres; still choose the cheapest feasible medium
+)
+
+// DefaultMaxRounds is the number of improvement rounds Solve runs when Settings.MaxRounds is 0.
+const DefaultMaxRounds = 12
+
+// Settings tune Solve.
+type Settings struct {
+	// Objective is ObjectiveCost ("" means the same) or ObjectiveLength.
+	Objective string
+	// MaxRounds bounds the rip-up-and-reroute rounds; 0 means DefaultMaxRounds.
+	MaxRounds int
+}
+
+// ErrInvalidProblem is wrapped by every error about a malformed Problem or Settings.
+var ErrInvalidProblem = errors.New("invalid problem")
+
+// ErrorList holds every problem found in a Problem, in edge order.
+type ErrorList []error
+
+// Error returns the first error and how many more there are.
+func (l ErrorList) Error() string {
+	switch len(l) {
+	case 0:
+		return "no errors"
+	case 1:
+		return l[0].Error()
+	}
+	return fmt.Sprintf("%s (and %d more errors)", l[0], len(l)-1)
+}
+
+// Unwrap returns the errors of the list, for errors.Is and errors.As.
+func (l ErrorList) Unwrap() []error { return l }
+
+// Err returns nil when the list is empty and the list otherwise.
+func (l ErrorList) Err() error {
+	if len(l) == 0 {
+		return nil
+	}
+	return l
+}
+
+func finiteNonNeg(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) && v >= 0 }
+
+// validate checks what makes a whole solve meaningless (edges, settings). Problems with one
+// demand are not errors: they make that demand infeasible.
+func validate(p *Problem, s Settings) error {
+	var errs ErrorList
+	bad := func(format string, args ...any) {
+		errs = append(errs, fmt.Errorf("optimize: "+format+": %w", append(args, ErrInvalidProblem)...))
+	}
+	if s.Objective != "" && s.Objective != ObjectiveCost && s.Objective != ObjectiveLength {
+		bad("settings: objective: want %q or %q, got %q", ObjectiveCost, ObjectiveLength, s.Objective)
+	}
+	if s.MaxRounds < 0 {
+		bad("settings: max rounds: want >= 0, got %d", s.MaxRounds)
+	}
+	if p.Nodes < 0 {
+		bad("nodes: want >= 0, got %d", p.Nodes)
+	}
+	for i := range p.Edges {
+		e := &p.Edges[i]
+		name := fmt.Sprintf("edge %d (%q)", i, e.ID)
+		if e.From < 0 || e.From >= p.Nodes {
+			bad("%s: from: want node index in [0, %d), got %d", name, p.Nodes, e.From)
+		}
+		if e.To < 0 || e.To >= p.Nodes {
+			bad("%s: to: want node index in [0, %d), got %d", name, p.Nodes, e.To)
+		}
+		if !finiteNonNeg(e.LengthM) {
+			bad("%s: length_m: want finite number >= 0, got %v", name, e.LengthM)
+		} else if e.LengthM > maxLengthM {
+			bad("%s: length_m: want at most %v, got %v", name, float64(maxLengthM), e.LengthM)
+		}
+		if e.LabourPerMCents < 0 || e.LabourPerMCents > maxPerMCents {
+			bad("%s: labour per metre: want cents in [0, %d], got %d", name, int64(maxPerMCents), e.LabourPerMCents)
+		}
+		if e.FixedCents < 0 || e.FixedCents > maxFixedCents {
+			bad("%s: fixed cost: want cents in [0, %d], got %d", name, int64(maxFixedCents), e.FixedCents)
+		}
+		if e.AddDuctPerMCents < 0 || e.AddDuctPerMCents > maxPerMCents {
+			bad("%s: add-duct price per metre: want cents in [0, %d], got %d", name, int64(maxPerMCents), e.AddDuctPerMCents)
+		}
+		if e.Ducts < 0 {
+			bad("%s: ducts: want >= 0, got %d", name, e.Ducts)
+		}
+		if !finiteNonNeg(e.DuctIDMM) {
+			bad("%s: duct internal diameter: want finite number of mm >= 0, got %v", name, e.DuctIDMM)
+		}
+		if e.Group < 0 {
+			bad("%s: group: want >= 0, got %d", name, e.Group)
+		}
+	}
+	return errs.Err()
+}
+
+// Bounds that keep every sum of cents and millimetres far from int64 overflow.
+const (
+	maxLengthM    = 1e6     // 1000 km per edge
+	maxPerMCents  = 1e8     // one million currency units per metre
+	maxFixedCents = 1e13    // one hundred billion currency units
+	maxReachM     = 1e9     // longer reach counts as none
+	maxODMM       = 1000.0  // a cable wider than a metre is an input error
+	maxOptionCent = 1e13    // option prices
+	mmPerM        = 1000.0  // lengths are compared in whole millimetres
+	unlimitedMM   = 1 << 62 // reach of an option without limit, in mm
+)
+
+// demandProblem returns why demand d cannot be routed at all, or "" when its data is usable.
+func demandProblem(p *Problem, d *Demand) string {
+	var msgs []string
+	if d.Source < 0 || d.Source >= p.Nodes {
+		msgs = append(msgs, fmt.Sprintf("source: want node index in [0, %d), got %d", p.Nodes, d.Source))
+	}
+	if d.Target < 0 || d.Target >= p.Nodes {
+		msgs = append(msgs, fmt.Sprintf("target: want node index in [0, %d), got %d", p.Nodes, d.Target))
+	}
+	if len(msgs) == 0 && d.Source == d.Target {
+		msgs = append(msgs, fmt.Sprintf("source and target are both node %d", d.Source))
+	}
+	if len(d.Options) == 0 {
+		msgs = append(msgs, "no candidate medium")
+	}
+	for i := range d.Options {
+		o := &d.Options[i]
+		name := fmt.Sprintf("option %d (%q)", i, o.Name)
+		if o.CablePerMCents < 0 || o.CablePerMCents > maxPerMCents {
+			msgs = append(msgs, fmt.Sprintf("%s: cable per metre: want cents in [0, %d], got %d", name, int64(maxPerMCents), o.CablePerMCents))
+		}
+		if o.FixedCents < 0 || o.FixedCents > maxOptionCent {
+			msgs = append(msgs, fmt.Sprintf("%s: fixed cost: want cents in [0, %d], got %d", name, int64(maxOptionCent), o.FixedCents))
+		}
+		if math.IsNaN(o.MaxRouteM) || o.MaxRouteM < 0 {
+			msgs = append(msgs, fmt.Sprintf("%s: reach: want metres >= 0 or +Inf, got %v", name, o.MaxRouteM))
+		}
+		if !finiteNonNeg(o.CableODMM) || o.CableODMM > maxODMM {
+			msgs = append(msgs, fmt.Sprintf("%s: cable OD: want mm in [0, %v], got %v", name, maxODMM, o.CableODMM))
+		}
+	}
+	return strings.Join(msgs, "; ")
+}
+
+// reachMM converts an option's reach to whole millimetres (rounded down, so a route that is
+// reported within reach is within it).
+func reachMM(o *Option) int64 {
+	if o.MaxRouteM == 0 || math.IsInf(o.MaxRouteM, 1) || o.MaxRouteM >= maxReachM {
+		return unlimitedMM
+	}
+	return int64(math.Floor(o.MaxRouteM*mmPerM + 1e-6))
+}
+
+// centsFor returns round(lengthM × perMCents), the cost in cents of one cable-metre price over
+// an edge. Every sum in the package adds these per-edge values, so totals are exact.
+func centsFor(lengthM float64, perMCents int64) int64 {
+	return int64(math.Round(lengthM * float64(perMCents)))
+}
+
+// lengthMM returns an edge length in whole millimetres.
+func lengthMM(lengthM float64) int64 { return int64(math.Round(lengthM * mmPerM)) }

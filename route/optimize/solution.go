@@ -1,0 +1,124 @@
+package optimize
+
+// Hop is one edge of a route, in travel order.
+type Hop struct {
+	Edge    int  // index into Problem.Edges
+	Forward bool // true when travelled From → To
+}
+
+// Leg is one path from a demand's Source to its Target.
+type Leg struct {
+	Hops    []Hop
+	LengthM float64 // sum of the edges' LengthM, in metres
+}
+
+// Nodes returns the node indices the leg passes, Source first, given the problem's edges.
+func (l Leg) Nodes(edges []Edge) []int {
+	if len(l.Hops) == 0 {
+		return nil
+	}
+	out := make([]int, 0, len(l.Hops)+1)
+	for i, h := range l.Hops {
+		e := edges[h.Edge]
+		from, to := e.From, e.To
+		if !h.Forward {
+			from, to = to, from
+		}
+		if i == 0 {
+			out = append(out, from)
+		}
+		out = append(out, to)
+	}
+	return out
+}
+
+// Breakdown is the cost of one demand in cents. Its parts add up to Total, and the Totals of
+// all routes add up to Solution.TotalCents.
+type Breakdown struct {
+	CableCents  int64 // Σ legs Σ edges round(LengthM × CablePerMCents)
+	LabourCents int64 // Σ legs Σ edges round(LengthM × LabourPerMCents)
+	// ConstructionShareCents is the demand's share of the opened proposed edges it uses: each
+	// edge's FixedCents split equally among its users, the remainder cents to the first user
+	// in demand order.
+	ConstructionShareCents int64
+	// AddedDuctCents is the price of the ducts added because this demand's cable did not fit
+	// (charged to the demand whose cable, pulled in demand order, first needed the duct).
+	AddedDuctCents int64
+	FixedCents     int64 // the option's FixedCents
+}
+
+// Total returns the sum of the parts, in cents.
+func (b Breakdown) Total() int64 {
+	return b.CableCents + b.LabourCents + b.ConstructionShareCents + b.AddedDuctCents + b.FixedCents
+}
+
+// Point kinds of a SinglePoint.
+const (
+	PointEdge  = "edge"
+	PointNode  = "node"
+	PointGroup = "group"
+)
+
+// SinglePoint names what keeps a Diverse demand from having two independent routes.
+type SinglePoint struct {
+	Kind  string // PointEdge, PointNode or PointGroup
+	Index int    // the edge index, node index or group number
+	// Separates is true when removing the point disconnects Source from Target, false when a
+	// group was shared by every pair the search found but its removal alone does not
+	// disconnect them (group-disjoint routing is NP-hard; the search is a heuristic).
+	Separates bool
+}
+
+// Route is the decision for one demand.
+type Route struct {
+	Demand int    // index into Problem.Demands
+	ID     string // the demand's ID
+
+	Feasible bool
+	Option   int    // index into Demand.Options; -1 when infeasible
+	Medium   string // the option's Name
+
+	Primary Leg
+	// Secondary is the diverse leg of a Diverse demand; empty when none exists, and then
+	// SinglePoint says why.
+	Secondary   Leg
+	SinglePoint *SinglePoint
+	// Note says, for a Diverse demand without Secondary, why (e.g. "every route passes node 7").
+	Note string
+
+	Cost Breakdown
+}
+
+// Infeasible is a demand that could not be routed.
+type Infeasible struct {
+	Demand int
+	ID     string
+	Reason string // e.g. `option 0 ("om4"): shortest route 612.300 m exceeds reach 400.000 m`
+}
+
+// EdgeFill is the load of one edge that carries at least one cable.
+type EdgeFill struct {
+	Edge   int // index into Problem.Edges
+	Cables int // cables pulled along the edge (a diverse demand's two legs never share one)
+	// Limited is false for an edge with unlimited capacity (proposed, or no duct data); the
+	// duct and area figures are then zero.
+	Limited    bool
+	Ducts      int // spare ducts before the plan
+	AddedDucts int // ducts the plan adds
+	// UsedAreaMM2 is the cables' cross-section in mm²; AllowedAreaMM2 is the NFPA 70
+	// Chapter 9 Table 1 area allowed in the ducts used, packing the cables first-fit in demand
+	// order (53 % of a duct for one cable, 31 % for two, 40 % for more).
+	UsedAreaMM2    float64
+	AllowedAreaMM2 float64
+}
+
+// Solution is the result of Solve.
+type Solution struct {
+	Routes     []Route      // one per demand, in demand order
+	Infeasible []Infeasible // in demand order
+	Opened     []int        // proposed edges the plan opens, ascending
+	Fill       []EdgeFill   // edges that carry cables, ascending by edge index
+	TotalCents int64        // Σ Routes[i].Cost.Total()
+	TotalM     float64      // Σ route metres over all legs
+	Rounds     int          // improvement rounds run
+}

@@ -1,0 +1,837 @@
+package optimize
+
+import (
+	"math"
+	"slices"
+)
+
+// Solve routes every demand of p and chooses its medium, minimising the plan cost (or, with
+// Settings.Objective "length", the total route length). It returns an error only for a malformed
+// Problem or Settings (every problem found, as an ErrorList wrapping ErrInvalidProblem); a
+// demand that cannot be routed is listed in Solution.Infeasible and the others are routed.
+//
+// Method (see the package documentation for the cost):
+//
+//  1. Lower bounds: one Dijkstra per (anchor node, cost profile), where the anchor is the
+//     demand end that more demands share (usually the cross-connect) and a cost profile is a
+//     distinct (cable price, excluded flags) pair, with every proposed edge free. These trees
+//     answer most searches outright and guide the others as A* heuristics.
+//  2. Two starting plans: demands routed one by one in demand order with each unopened proposed
+//     edge charged its full FixedCents (edges opened by earlier demands are free), and the same
+//     with every proposed edge free during the first pass. Each demand takes the option whose
+//     route (within reach: LARAC and an exact label search, see rcsp.go) plus option cost is
+//     cheapest, diverse demands a diverse pair (disjoint.go, pair.go).
+//  3. Local search on each start until no move lowers the cost or Settings.MaxRounds: rip up
+//     and reroute each demand against the others' plan (an edge only it uses costs its full
+//     FixedCents, so leaving it saves that); close an opened edge (forbid it, reroute its users,
+//     keep if cheaper); open a run of proposed edges that some demand's unconstrained cheapest
+//     route uses (treat it as free, reroute the demands it may help, keep if cheaper).
+//  4. The better plan is reported, with the cost split per demand.
+//
+// Every move is kept only when the exact plan cost — compared lexicographically after the number
+// of capacity violations, unrouted demands and diverse demands without a pair — strictly falls,
+// so the search ends. Complexity per round is O(D) searches, each O(|E| log |V|) at worst and
+// usually far less; the exact reach search is exponential in the worst case and is capped.
+func Solve(p *Problem, opt Settings) (*Solution, error) {
+	if err := validate(p, opt); err != nil {
+		return nil, err
+	}
+	sv := newSolver(p, opt)
+	sv.run()
+	return sv.solution(), nil
+}
+
+// profile is a distinct cost profile: cable price and excluded flags.
+type profile struct {
+	cablePerM int64
+	exclude   uint64
+}
+
+type choice struct {
+	opt     int     // option index, -1 when unrouted
+	legs    [][]Hop // anchored orientation: from the demand's free end to its anchor
+	varCost int64   // Σ cable and labour cents over the legs
+	lenMM   int64   // Σ leg lengths in millimetres
+}
+
+type state struct {
+	ch       []choice
+	count    []int32   // cables per edge
+	users    [][]int32 // per tracked edge (proposed or limited): demands using it, ascending
+	added    []int     // per limited edge: ducts added
+	over     []bool    // per limited edge: cables do not fit
+	total    int64 // plan cost in cents (without construction and ducts for the length objective)
+	totalMM  int64
+	overfull int
+	unrouted int
+	unmet    int
+}
+
+type key struct {
+	overfull, unrouted, unmet int
+	total, totalMM            int64
+}
+
+func (a key) less(b key) bool {
+	if a.overfull != b.overfull {
+		return a.overfull < b.overfull
+	}
+	if a.unrouted != b.unrouted {
+		return a.unrouted < b.unrouted
+	}
+	if a.unmet != b.unmet {
+		return a.unmet < b.unmet
+	}
+	if a.total != b.total {
+		return a.total < b.total
+	}
+	return a.totalMM < b.totalMM
+}
+
+type solver struct {
+	p         *Problem
+	net       *Network
+	length    bool
+	maxRounds int
+	rounds    int
+
+	profiles []profile
+	profBase [][]int64 // profile → edge → search weight (cents or mm), -1 when unusable
+	profCent [][]int64 // profile → edge → cable + labour cents, -1 when unusable
+	lenBase  [][]int64 // exclusion class → edge → mm, -1 when unusable
+	lenClass map[uint64]int
+	optProf  [][]int   // demand → option → profile
+	reach    [][]int64 // demand → option → reach in mm
+	invalid  []string  // demand → reason it cannot be routed at all, "" when usable
+	from, to []int     // demand → free end and anchor
+	fixedE   []int64   // edge → FixedCents charged when opened (0 for the length objective)
+	limited  []bool
+	tracked  []bool
+	ductCent []int64 // edge → cents per added duct
+	groups   map[int][]int32
+	proposed []int32
+
+	costTrees map[[2]int]*tree // (anchor, profile)
+	lenTrees  map[[2]int]*tree // (anchor, exclusion class)
+
+	cap capacity
+	st  *state
+
+	forbid  []bool
+	phantom []bool
+	blk     []uint32 // edges blocked for the current pair search
+	blkSt   uint32
+
+	srch  *search[int64]
+	rc    *rcspScratch
+	ps    *pairScratch
+	pen   []int64
+	penOK []bool
+	penSt []uint32
+	penN  uint32
+	odBuf []float64
+}
+
+func newSolver(p *Problem, opt Settings) *solver {
+	net := NewNetwork(p.Nodes, p.Edges)
+	ne := len(p.Edges)
+	sv := &solver{
+		p: p, net: net, length: opt.Objective == ObjectiveLength, maxRounds: opt.MaxRounds,
+		lenClass: map[uint64]int{}, fixedE: make([]int64, ne), limited: make([]bool, ne), tracked: make([]bool, ne),
+		ductCent: make([]int64, ne), groups: map[int][]int32{},
+		costTrees: map[[2]int]*tree{}, lenTrees: map[[2]int]*tree{},
+		cap:    capacity{edges: p.Edges, fits: p.Fits},
+		forbid: make([]bool, ne), phantom: make([]bool, ne), blk: make([]uint32, ne),
+		srch: newSearch[int64](net), rc: newRCSPScratch(net), ps: newPairScratch(net),
+		pen: make([]int64, ne), penOK: make([]bool, ne), penSt: make([]uint32, ne),
+	}
+	if sv.maxRounds == 0 {
+		sv.maxRounds = DefaultMaxRounds
+	}
+	for i := range p.Edges {
+		e := &p.Edges[i]
+		if e.Proposed {
+			sv.tracked[i] = true
+			if p.AllowNew {
+				sv.proposed = append(sv.proposed, int32(i))
+				if !sv.length {
+					sv.fixedE[i] = e.FixedCents
+				}
+			}
+		}
+		if e.limited() {
+			sv.limited[i], sv.tracked[i] = true, true
+			sv.ductCent[i] = centsFor(e.LengthM, e.AddDuctPerMCents)
+		}
+		if e.Group > 0 {
+			sv.groups[e.Group] = append(sv.groups[e.Group], int32(i))
+		}
+	}
+	profIdx := map[profile]int{}
+	nd := len(p.Demands)
+	sv.optProf, sv.reach, sv.invalid = make([][]int, nd), make([][]int64, nd), make([]string, nd)
+	sv.from, sv.to = make([]int, nd), make([]int, nd)
+	ends := make([]int, max(p.Nodes, 0))
+	for d := range p.Demands {
+		dm := &p.Demands[d]
+		if sv.invalid[d] = demandProblem(p, dm); sv.invalid[d] != "" {
+			continue
+		}
+		ends[dm.Source]++
+		ends[dm.Target]++
+		for o := range dm.Options {
+			op := &dm.Options[o]
+			pr := profile{cablePerM: op.CablePerMCents, exclude: op.ExcludeFlags}
+			pi, ok := profIdx[pr]
+			if !ok {
+				pi = len(sv.profiles)
+				profIdx[pr] = pi
+				sv.profiles = append(sv.profiles, pr)
+				sv.profBase = append(sv.profBase, sv.baseFor(pr, false))
+				sv.profCent = append(sv.profCent, sv.baseFor(pr, true))
+			}
+			if _, ok := sv.lenClass[pr.exclude]; !ok {
+				sv.lenClass[pr.exclude] = len(sv.lenBase)
+				sv.lenBase = append(sv.lenBase, sv.lenFor(pr.exclude))
+			}
+			sv.optProf[d] = append(sv.optProf[d], pi)
+			sv.reach[d] = append(sv.reach[d], reachMM(op))
+		}
+	}
+	for d := range p.Demands {
+		if sv.invalid[d] != "" {
+			continue
+		}
+		dm := &p.Demands[d]
+		// Anchor searches at the end more demands share (ties: the target).
+		sv.from[d], sv.to[d] = dm.Source, dm.Target
+		if ends[dm.Source] > ends[dm.Target] {
+			sv.from[d], sv.to[d] = dm.Target, dm.Source
+		}
+	}
+	return sv
+}
+
+func (sv *solver) usable(i int, exclude uint64) bool {
+	e := &sv.p.Edges[i]
+	return (!e.Proposed || sv.p.AllowNew) && e.Flags&exclude == 0
+}
+
+func (sv *solver) baseFor(pr profile, cents bool) []int64 {
+	b := make([]int64, len(sv.p.Edges))
+	for i := range b {
+		e := &sv.p.Edges[i]
+		switch {
+		case !sv.usable(i, pr.exclude):
+			b[i] = -1
+		case sv.length && !cents:
+			b[i] = sv.net.lenMM[i]
+		default:
+			b[i] = centsFor(e.LengthM, pr.cablePerM) + centsFor(e.LengthM, e.LabourPerMCents)
+		}
+	}
+	return b
+}
+
+func (sv *solver) lenFor(exclude uint64) []int64 {
+	b := make([]int64, len(sv.p.Edges))
+	for i := range b {
+		b[i] = -1
+		if sv.usable(i, exclude) {
+			b[i] = sv.net.lenMM[i]
+		}
+	}
+	return b
+}
+
+func (sv *solver) costTree(anchor, prof int) *tree {
+	k := [2]int{anchor, prof}
+	if t, ok := sv.costTrees[k]; ok {
+		return t
+	}
+	base := sv.profBase[prof]
+	t := buildTree(sv.srch, anchor, func(e int32) (int64, bool) { return base[e], base[e] >= 0 })
+	sv.costTrees[k] = t
+	return t
+}
+
+func (sv *solver) lenTree(anchor int, exclude uint64) *tree {
+	c := sv.lenClass[exclude]
+	k := [2]int{anchor, c}
+	if t, ok := sv.lenTrees[k]; ok {
+		return t
+	}
+	base := sv.lenBase[c]
+	t := buildTree(sv.srch, anchor, func(e int32) (int64, bool) { return base[e], base[e] >= 0 })
+	sv.lenTrees[k] = t
+	return t
+}
+
+func newState(sv *solver) *state {
+	ne, nd := len(sv.p.Edges), len(sv.p.Demands)
+	st := &state{ch: make([]choice, nd), count: make([]int32, ne), users: make([][]int32, ne),
+		added: make([]int, ne), over: make([]bool, ne)}
+	for d := range st.ch {
+		st.ch[d].opt = -1
+		st.unrouted++
+	}
+	return st
+}
+
+func (st *state) key() key { return key{st.overfull, st.unrouted, st.unmet, st.total, st.totalMM} }
+
+func (sv *solver) od(d, o int) float64 { return sv.p.Demands[d].Options[o].CableODMM }
+
+// refreshDucts recomputes the ducts edge e needs for its users and updates the total.
+func (sv *solver) refreshDucts(e int) {
+	st := sv.st
+	ods := sv.odBuf[:0]
+	for _, u := range st.users[e] {
+		ods = append(ods, sv.od(int(u), st.ch[u].opt))
+	}
+	sv.odBuf = ods
+	added, ok := 0, true
+	if len(ods) > 0 {
+		added, ok = sv.cap.needed(e, ods)
+	}
+	if !ok {
+		added = st.added[e]
+	}
+	if ok == st.over[e] {
+		if ok {
+			st.overfull--
+		} else {
+			st.overfull++
+		}
+		st.over[e] = !ok
+	}
+	if !sv.length {
+		st.total += int64(added-st.added[e]) * sv.ductCent[e]
+	}
+	st.added[e] = added
+}
+
+func insertSorted(s []int32, v int32) []int32 {
+	i, _ := slices.BinarySearch(s, v)
+	return slices.Insert(s, i, v)
+}
+
+func removeSorted(s []int32, v int32) []int32 {
+	i, found := slices.BinarySearch(s, v)
+	if !found {
+		panic("optimize: demand missing from an edge's users")
+	}
+	return slices.Delete(s, i, i+1)
+}
+
+func (sv *solver) add(d int, c choice) {
+	st := sv.st
+	st.ch[d] = c
+	if c.opt < 0 {
+		return
+	}
+	st.unrouted--
+	if sv.p.Demands[d].Diverse && len(c.legs) < 2 {
+		st.unmet++
+	}
+	st.total += c.varCost + sv.p.Demands[d].Options[c.opt].FixedCents
+	st.totalMM += c.lenMM
+	for _, leg := range c.legs {
+		for _, h := range leg {
+			e := h.Edge
+			st.count[e]++
+			if st.count[e] == 1 {
+				st.total += sv.fixedE[e]
+			}
+			if sv.tracked[e] {
+				st.users[e] = insertSorted(st.users[e], int32(d))
+				if sv.limited[e] {
+					sv.refreshDucts(e)
+				}
+			}
+		}
+	}
+}
+
+func (sv *solver) remove(d int) choice {
+	st := sv.st
+	c := st.ch[d]
+	if c.opt < 0 {
+		return c
+	}
+	for _, leg := range c.legs {
+		for _, h := range leg {
+			e := h.Edge
+			st.count[e]--
+			if st.count[e] == 0 {
+				st.total -= sv.fixedE[e]
+			}
+			if sv.tracked[e] {
+				st.users[e] = removeSorted(st.users[e], int32(d))
+				if sv.limited[e] {
+					sv.refreshDucts(e)
+				}
+			}
+		}
+	}
+	st.total -= c.varCost + sv.p.Demands[d].Options[c.opt].FixedCents
+	st.totalMM -= c.lenMM
+	if sv.p.Demands[d].Diverse && len(c.legs) < 2 {
+		st.unmet--
+	}
+	st.unrouted++
+	st.ch[d] = choice{opt: -1}
+	return c
+}
+
+// penalty returns the cost of the ducts demand d's cable (option o) would add to edge e, and
+// whether the cable can be pulled there at all. The state must not contain d.
+func (sv *solver) penalty(d, o int, e int32) (int64, bool) {
+	if sv.penSt[e] == sv.penN {
+		return sv.pen[e], sv.penOK[e]
+	}
+	st := sv.st
+	od := sv.od(d, o)
+	ods := sv.odBuf[:0]
+	ins := false
+	for _, u := range st.users[e] {
+		if !ins && int(u) > d {
+			ods, ins = append(ods, od), true
+		}
+		ods = append(ods, sv.od(int(u), st.ch[u].opt))
+	}
+	if !ins {
+		ods = append(ods, od)
+	}
+	sv.odBuf = ods
+	added, ok := sv.cap.needed(int(e), ods)
+	var pen int64
+	if ok && !sv.length {
+		pen = int64(max(0, added-st.added[e])) * sv.ductCent[e]
+	}
+	sv.penSt[e], sv.pen[e], sv.penOK[e] = sv.penN, pen, ok
+	return pen, ok
+}
+
+// weightFor returns demand d's marginal weight for option o against the current state: the
+// profile's base weight, plus FixedCents on an unopened proposed edge, plus the price of any
+// ducts its cable would add. It starts a new penalty memo.
+func (sv *solver) weightFor(d, o int) func(e int32) (int64, bool) {
+	sv.penN++
+	if sv.penN == 0 {
+		clear(sv.penSt)
+		sv.penN = 1
+	}
+	base := sv.profBase[sv.optProf[d][o]]
+	st := sv.st
+	return func(e int32) (int64, bool) {
+		b := base[e]
+		if b < 0 || sv.forbid[e] {
+			return 0, false
+		}
+		if fx := sv.fixedE[e]; fx > 0 && st.count[e] == 0 && !sv.phantom[e] {
+			b += fx
+		}
+		if sv.limited[e] {
+			pen, ok := sv.penalty(d, o, e)
+			if !ok {
+				return 0, false
+			}
+			b += pen
+		}
+		return b, true
+	}
+}
+
+// route returns the best single path for demand d with option o against the current state:
+// its hops (free end → anchor), marginal weight and whether one within reach exists.
+func (sv *solver) route(d, o int) ([]Hop, int64, bool) {
+	s, t := sv.from[d], sv.to[d]
+	prof := sv.optProf[d][o]
+	tr := sv.costTree(t, prof)
+	if tr.dist[s] < 0 {
+		return nil, 0, false
+	}
+	limit := sv.reach[d][o]
+	w := sv.weightFor(d, o)
+	base := sv.profBase[prof]
+	// The lower-bound tree path is optimal when every edge on it costs only its base weight.
+	hops := tr.pathFrom(sv.net, s)
+	exact := true
+	for _, h := range hops {
+		if c, ok := w(int32(h.Edge)); !ok || c != base[h.Edge] {
+			exact = false
+			break
+		}
+	}
+	if exact && tr.lenMM[s] <= limit {
+		return hops, tr.dist[s], true
+	}
+	if !sv.srch.run(s, t, w, tr.dist) {
+		return nil, 0, false
+	}
+	hops = sv.srch.pathTo(t)
+	if sv.srch.lenMM[t] <= limit {
+		return hops, sv.srch.dist[t], true
+	}
+	lt := sv.lenTree(t, sv.profiles[prof].exclude)
+	if lt.dist[s] > limit {
+		return nil, 0, false
+	}
+	lw := func(e int32) (int64, bool) {
+		if _, ok := w(e); !ok {
+			return 0, false
+		}
+		return sv.net.lenMM[e], true
+	}
+	if !sv.srch.run(s, t, lw, lt.dist) || sv.srch.dist[t] > limit {
+		return nil, 0, false
+	}
+	pd := sv.srch.pathTo(t)
+	pl := larac(sv.net, sv.rc, s, t, limit, w, hops, pd)
+	ub, _ := pathEval(sv.net, pl, w)
+	if ex, ok, _ := labelSearch(sv.net, sv.rc, s, t, limit, w, tr.dist, lt.dist, ub); ok {
+		pl = ex
+	}
+	c, _ := pathEval(sv.net, pl, w)
+	return pl, c, true
+}
+
+// cand orders option candidates: by the objective (marginal cents; for the length objective
+// the cents of the option on its shortest route), then metres, then option index.
+type cand struct {
+	obj   int64
+	lenMM int64
+	opt   int
+}
+
+func (a cand) less(b cand) bool {
+	if a.obj != b.obj {
+		return a.obj < b.obj
+	}
+	if a.lenMM != b.lenMM {
+		return a.lenMM < b.lenMM
+	}
+	return a.opt < b.opt
+}
+
+// best returns demand d's best choice against the current state (which must not contain d).
+func (sv *solver) best(d int) choice {
+	if sv.invalid[d] != "" {
+		return choice{opt: -1}
+	}
+	dm := &sv.p.Demands[d]
+	type lbo struct {
+		lb  int64
+		opt int
+	}
+	order := make([]lbo, 0, len(dm.Options))
+	for o := range dm.Options {
+		lb := sv.costTree(sv.to[d], sv.optProf[d][o]).dist[sv.from[d]]
+		if lb < 0 {
+			continue
+		}
+		if dm.Diverse {
+			lb *= 2
+		}
+		if !sv.length {
+			lb += dm.Options[o].FixedCents
+		}
+		order = append(order, lbo{lb, o})
+	}
+	slices.SortFunc(order, func(a, b lbo) int {
+		if a.lb != b.lb {
+			if a.lb < b.lb {
+				return -1
+			}
+			return 1
+		}
+		return a.opt - b.opt
+	})
+	bestC := cand{obj: math.MaxInt64}
+	var bestCh choice
+	bestCh.opt = -1
+	consider := func(o int, legs [][]Hop, w int64) {
+		var vc, mm int64
+		cents := sv.profCent[sv.optProf[d][o]]
+		for _, leg := range legs {
+			for _, h := range leg {
+				vc += cents[h.Edge]
+				mm += sv.net.lenMM[h.Edge]
+			}
+		}
+		c := cand{obj: w + dm.Options[o].FixedCents, lenMM: mm, opt: o}
+		if sv.length {
+			// The length objective routes by metres but chooses the cheapest medium.
+			c.obj = vc + dm.Options[o].FixedCents
+		}
+		if c.less(bestC) {
+			bestC = c
+			bestCh = choice{opt: o, legs: legs, varCost: vc, lenMM: mm}
+		}
+	}
+	pruned := func(x lbo) bool { return !sv.length && (x.lb > bestC.obj || (x.lb == bestC.obj && x.opt > bestC.opt)) }
+	if dm.Diverse {
+		for _, x := range order {
+			if pruned(x) {
+				break
+			}
+			if legs, w, ok := sv.pair(d, x.opt); ok {
+				consider(x.opt, legs[:], w)
+			}
+		}
+		if bestCh.opt >= 0 {
+			return bestCh
+		}
+		for i := range order { // single-path bounds are half the pair bounds
+			if !sv.length {
+				o := order[i].opt
+				order[i].lb = (order[i].lb-dm.Options[o].FixedCents)/2 + dm.Options[o].FixedCents
+			}
+		}
+	}
+	for _, x := range order {
+		if pruned(x) {
+			break
+		}
+		if hops, w, ok := sv.route(d, x.opt); ok {
+			consider(x.opt, [][]Hop{hops}, w)
+		}
+	}
+	return bestCh
+}
+
+// reroute rips demand d up and routes it again; it keeps the new route only if the plan improves.
+func (sv *solver) reroute(d int) bool {
+	if sv.invalid[d] != "" {
+		return false
+	}
+	before := sv.st.key()
+	old := sv.remove(d)
+	sv.add(d, sv.best(d))
+	if sv.st.key().less(before) {
+		return true
+	}
+	sv.remove(d)
+	sv.add(d, old)
+	return false
+}
+
+// rerouteAll reroutes the given demands in order under the current move; it reverts them all
+// unless the plan improves.
+func (sv *solver) rerouteAll(ds []int32, before key) bool {
+	olds := make([]choice, len(ds))
+	for i, d := range ds {
+		olds[i] = sv.remove(int(d))
+		sv.add(int(d), sv.best(int(d)))
+	}
+	return sv.keepOrRevert(ds, olds, before)
+}
+
+func (sv *solver) keepOrRevert(ds []int32, olds []choice, before key) bool {
+	if sv.st.key().less(before) {
+		return true
+	}
+	for i := len(ds) - 1; i >= 0; i-- {
+		sv.remove(int(ds[i]))
+		sv.add(int(ds[i]), olds[i])
+	}
+	return false
+}
+
+// closeMoves tries closing each opened proposed edge.
+func (sv *solver) closeMoves() bool {
+	changed := false
+	for _, e := range sv.proposed {
+		st := sv.st
+		if st.count[e] == 0 {
+			continue
+		}
+		before := st.key()
+		users := slices.Clone(st.users[e])
+		sv.forbid[e] = true
+		olds := make([]choice, len(users))
+		for i, d := range users {
+			olds[i] = sv.remove(int(d))
+			sv.add(int(d), sv.best(int(d)))
+		}
+		sv.forbid[e] = false
+		if sv.keepOrRevert(users, olds, before) {
+			changed = true
+		}
+	}
+	return changed
+}
+
+type openCand struct {
+	edges    []int32
+	affected []int32
+}
+
+// openCandidates lists runs of unopened proposed edges on the demands' unconstrained cheapest
+// routes (from the lower-bound trees), each with the demands it may help.
+func (sv *solver) openCandidates() []openCand {
+	st := sv.st
+	nd := len(sv.p.Demands)
+	small := len(sv.proposed) <= 48 && nd <= 48
+	var all []int32
+	for d := 0; d < nd; d++ {
+		if sv.invalid[d] == "" {
+			all = append(all, int32(d))
+		}
+	}
+	optUsers := map[int32][]int32{}
+	seen := map[string]bool{}
+	var cands []openCand
+	addCand := func(edges []int32) {
+		if len(edges) == 0 {
+			return
+		}
+		es := slices.Clone(edges)
+		slices.Sort(es)
+		k := string(int32Key(es))
+		if seen[k] {
+			return
+		}
+		seen[k] = true
+		cands = append(cands, openCand{edges: es})
+	}
+	for _, d := range all {
+		o := st.ch[d].opt
+		if o < 0 {
+			o = 0
+		}
+		tr := sv.costTree(sv.to[d], sv.optProf[d][o])
+		var run, whole []int32
+		for _, h := range tr.pathFrom(sv.net, sv.from[d]) {
+			e := int32(h.Edge)
+			if sv.fixedE[e] > 0 && st.count[e] == 0 {
+				run = append(run, e)
+				whole = append(whole, e)
+				optUsers[e] = append(optUsers[e], d)
+				continue
+			}
+			addCand(run)
+			run = run[:0]
+		}
+		addCand(run)
+		addCand(whole)
+	}
+	if small {
+		for _, e := range sv.proposed {
+			if st.count[e] == 0 {
+				addCand([]int32{e})
+			}
+		}
+	}
+	for i := range cands {
+		if small {
+			cands[i].affected = all
+			continue
+		}
+		var aff []int32
+		for _, e := range cands[i].edges {
+			aff = append(aff, optUsers[e]...)
+		}
+		slices.Sort(aff)
+		cands[i].affected = slices.Compact(aff)
+	}
+	return cands
+}
+
+func int32Key(es []int32) []byte {
+	b := make([]byte, 0, 4*len(es))
+	for _, e := range es {
+		b = append(b, byte(e), byte(e>>8), byte(e>>16), byte(e>>24))
+	}
+	return b
+}
+
+// openMoves tries opening each candidate run.
+func (sv *solver) openMoves() bool {
+	changed := false
+	for _, c := range sv.openCandidates() {
+		st := sv.st
+		closed := false
+		for _, e := range c.edges {
+			if st.count[e] == 0 {
+				closed = true
+			}
+		}
+		if !closed || len(c.affected) == 0 {
+			continue
+		}
+		before := st.key()
+		for _, e := range c.edges {
+			sv.phantom[e] = true
+		}
+		olds := make([]choice, len(c.affected))
+		for i, d := range c.affected {
+			olds[i] = sv.remove(int(d))
+			sv.add(int(d), sv.best(int(d)))
+		}
+		for _, e := range c.edges {
+			sv.phantom[e] = false
+		}
+		if sv.keepOrRevert(c.affected, olds, before) {
+			changed = true
+		}
+	}
+	return changed
+}
+
+// improve runs local search rounds on the current state.
+func (sv *solver) improve() int {
+	rounds := 0
+	moves := !sv.length && len(sv.proposed) > 0
+	for rounds < sv.maxRounds {
+		rounds++
+		changed := false
+		for d := range sv.p.Demands {
+			if sv.reroute(d) {
+				changed = true
+			}
+		}
+		if moves {
+			if sv.closeMoves() {
+				changed = true
+			}
+			if sv.openMoves() {
+				changed = true
+			}
+		}
+		if !changed {
+			break
+		}
+	}
+	return rounds
+}
+
+// start routes every demand in order; with open, every proposed edge is free in this pass.
+func (sv *solver) start(open bool) {
+	sv.st = newState(sv)
+	for _, e := range sv.proposed {
+		sv.phantom[e] = open
+	}
+	for d := range sv.p.Demands {
+		sv.add(d, sv.best(d))
+	}
+	for _, e := range sv.proposed {
+		sv.phantom[e] = false
+	}
+}
+
+func (sv *solver) run() {
+	sv.start(false)
+	sv.rounds = sv.improve()
+	if sv.length || len(sv.proposed) == 0 {
+		return
+	}
+	first, r1 := sv.st, sv.rounds
+	sv.start(true)
+	r2 := sv.improve()
+	if !sv.st.key().less(first.key()) {
+		sv.st = first
+	}
+	sv.rounds = r1 + r2
+}
