@@ -497,18 +497,47 @@ func (b *builder) joinEntrances() {
 func (b *builder) nearest(xy vec, r float64) (seg int, t, d float64, ok bool) {
 	lo, hi := around(xy, r)
 	b.buf = b.segGrid.query(lo, hi, b.buf)
-	best := math.Inf(1)
+	best := place{seg: -1}
 	for _, s := range b.buf {
 		sr := b.segs[s]
 		p := &b.parts[sr.part]
-		if tt, d2 := closestOnSeg(xy, p.xy[sr.i], p.xy[sr.i+1]); d2 < best {
-			best, seg, t = d2, int(s), tt
+		tt, d2 := closestOnSeg(xy, p.xy[sr.i], p.xy[sr.i+1])
+		if c := (place{seg: int(s), t: tt, d: math.Sqrt(d2)}); b.better(c, best) {
+			best = c
 		}
 	}
-	if math.Sqrt(best) > r {
+	if best.seg < 0 || best.d > r {
 		return 0, 0, 0, false
 	}
-	return seg, t, math.Sqrt(best), true
+	return best.seg, best.t, best.d, true
+}
+
+// place is a point on a pathway segment at distance d (projected metres) from something.
+type place struct {
+	seg  int
+	t, d float64
+}
+
+// better orders candidate places by distance to the millimetre, then by pathway ID, line,
+// segment and position, so that ties do not depend on input order.
+func (b *builder) better(x, y place) bool {
+	if y.seg < 0 {
+		return true
+	}
+	if dx, dy := math.Round(x.d*1000), math.Round(y.d*1000); dx != dy {
+		return dx < dy
+	}
+	px, py := &b.parts[b.segs[x.seg].part], &b.parts[b.segs[y.seg].part]
+	if ix, iy := b.c.Pathways[px.pw].ID, b.c.Pathways[py.pw].ID; ix != iy {
+		return ix < iy
+	}
+	if px.k != py.k {
+		return px.k < py.k
+	}
+	if x.seg != y.seg {
+		return x.seg < y.seg
+	}
+	return x.t < y.t
 }
 
 // target turns a place on a pathway into a member that must become a junction, preferring a
@@ -568,19 +597,20 @@ func (b *builder) planAccess() {
 		}
 		lo, hi = f.lo.sub(vec{b.maxLat, b.maxLat}), f.hi.add(vec{b.maxLat, b.maxLat})
 		b.buf = b.segGrid.query(lo, hi, b.buf)
-		best, bestSeg, bestT := math.Inf(1), -1, 0.0
+		best := place{seg: -1}
 		for _, s := range b.buf {
 			sr := b.segs[s]
 			p := &b.parts[sr.part]
-			if d, t := f.segDist(p.xy[sr.i], p.xy[sr.i+1]); d < best {
-				best, bestSeg, bestT = d, int(s), t
+			d, t := f.segDist(p.xy[sr.i], p.xy[sr.i+1])
+			if c := (place{seg: int(s), t: t, d: d}); b.better(c, best) {
+				best = c
 			}
 		}
-		if bestSeg < 0 || best > b.maxLat {
+		if best.seg < 0 || best.d > b.maxLat {
 			b.add(bl.Source, bl.ID, "", problemf(ErrUnreachable, "no pathway within %s m of the footprint (MaxLateralM)", fmtM(b.maxLat)))
 			continue
 		}
-		b.plans[bi] = accessPlan{via: ViaLateral, target: b.target(bestSeg, bestT)}
+		b.plans[bi] = accessPlan{via: ViaLateral, target: b.target(best.seg, best.t)}
 	}
 }
 
@@ -596,7 +626,9 @@ func (b *builder) planEntrance(bl Building, ents []int) accessPlan {
 	}
 	best, bestE, bestSeg, bestT := math.Inf(1), -1, 0, 0.0
 	for _, ei := range ents {
-		if seg, t, d, ok := b.nearest(b.mem[b.entMem[ei]].xy, b.maxLat); ok && d < best {
+		seg, t, d, ok := b.nearest(b.mem[b.entMem[ei]].xy, b.maxLat)
+		if ok && (bestE < 0 || math.Round(d*1000) < math.Round(best*1000) ||
+			(math.Round(d*1000) == math.Round(best*1000) && b.entIDs[ei] < b.entIDs[bestE])) {
 			best, bestE, bestSeg, bestT = d, ei, seg, t
 		}
 	}

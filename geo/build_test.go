@@ -1,0 +1,471 @@
+package geo
+
+import (
+	"math"
+	"math/rand/v2"
+	"reflect"
+	"strings"
+	"testing"
+
+	"github.com/paulmach/orb"
+)
+
+// at turns metres east (x) and north (y) of an invented campus origin at 10°E, 50°N into
+// lon/lat, roughly; tests that need exact lengths compare with DistanceM.
+func at(x, y float64) orb.Point {
+	const mPerDeg = 111195.0
+	return orb.Point{10 + x/(mPerDeg*math.Cos(50*deg)), 50 + y/mPerDeg}
+}
+
+func ml(xy ...float64) orb.LineString {
+	var ls orb.LineString
+	for i := 0; i+1 < len(xy); i += 2 {
+		ls = append(ls, at(xy[i], xy[i+1]))
+	}
+	return ls
+}
+
+func pw(id string, lines ...orb.LineString) Pathway {
+	return Pathway{Source: Source{"t.geojson", 0}, ID: id, Type: TypeDuct, Status: StatusExisting,
+		SpareDucts: 1, DuctMM: DefaultDuctMM, EMI: EMINone, Group: id, Lines: lines}
+}
+
+// box is a square building of side 2h metres centred on (x, y).
+func box(id string, x, y, h float64) Building {
+	r := orb.Ring{at(x-h, y-h), at(x+h, y-h), at(x+h, y+h), at(x-h, y+h), at(x-h, y-h)}
+	return Building{Source: Source{"t.geojson", 0}, ID: id, RiserM: DefaultRiserM, Footprint: orb.MultiPolygon{{r}}}
+}
+
+func build(t *testing.T, c *Campus) *Network {
+	t.Helper()
+	n, err := Build(c, Options{})
+	if err != nil {
+		t.Fatalf("build: %v", err)
+	}
+	return n
+}
+
+func spanIDs(n *Network) string {
+	var ids []string
+	for _, s := range n.Spans {
+		ids = append(ids, s.ID+":"+s.From+">"+s.To)
+	}
+	return strings.Join(ids, " ")
+}
+
+func TestBuildNoding(t *testing.T) {
+	t.Parallel()
+	cases := []struct {
+		name          string
+		c             Campus
+		wantSpans     int
+		wantJunctions int
+		wantWarnings  int
+		check         func(t *testing.T, n *Network)
+	}{
+		{
+			name: "shared vertex joins",
+			c: Campus{Pathways: []Pathway{
+				pw("P1", ml(0, 0, 100, 0, 200, 0)),
+				pw("P2", ml(100, -100, 100, 0, 100, 100)),
+			}},
+			wantSpans: 4, wantJunctions: 5,
+			check: func(t *testing.T, n *Network) {
+				s1, _ := n.Span("P1/1")
+				s2, _ := n.Span("P2/1")
+				if s1.To != s2.To {
+					t.Errorf("P1/1 ends at %s, P2/1 at %s; want the same junction", s1.To, s2.To)
+				}
+			},
+		},
+		{
+			name: "end on another line splits it",
+			c: Campus{Pathways: []Pathway{
+				pw("P1", ml(0, 0, 200, 0)),
+				pw("P2", ml(100, 0.3, 100, 100)),
+			}},
+			wantSpans: 3, wantJunctions: 4,
+			check: func(t *testing.T, n *Network) {
+				a, _ := n.Span("P1/1")
+				b, _ := n.Span("P1/2")
+				p2, _ := n.Span("P2")
+				if a.To != b.From || a.To != p2.From {
+					t.Errorf("T junction not shared: %s", spanIDs(n))
+				}
+				j, _ := n.Junction(a.To)
+				if j.Point != at(100, 0.3) {
+					t.Errorf("T junction at %v, want the end vertex %v", j.Point, at(100, 0.3))
+				}
+				if math.Abs(a.LengthM-LengthM(a.Line)) > 1e-9 || math.Abs(a.LengthM-100) > 1 {
+					t.Errorf("P1/1 length %.3f m, want about 100", a.LengthM)
+				}
+			},
+		},
+		{
+			name: "crossing without vertex does not join",
+			c: Campus{Pathways: []Pathway{
+				pw("P1", ml(0, 0, 200, 0)),
+				pw("P2", ml(100, -100, 100, 100)),
+			}},
+			wantSpans: 2, wantJunctions: 4, wantWarnings: 1,
+			check: func(t *testing.T, n *Network) {
+				w := n.Warnings[0]
+				if !strings.Contains(w.Message, `pathways "P1" and "P2" cross at`) || w.Feature != "#0 (P1)" {
+					t.Errorf("warning: got %+v", w)
+				}
+			},
+		},
+		{
+			name: "structure splits both",
+			c: Campus{
+				Pathways:   []Pathway{pw("P1", ml(0, 0, 200, 0)), pw("P2", ml(100, -100, 100, 100))},
+				Structures: []Structure{{ID: "MH-1", Type: StructureMaintenanceHole, Point: at(100.2, 0.2)}},
+			},
+			wantSpans: 4, wantJunctions: 5,
+			check: func(t *testing.T, n *Network) {
+				j, ok := n.Junction("MH-1")
+				if !ok || j.Kind != JunctionStructure || j.StructureType != StructureMaintenanceHole || j.Point != at(100.2, 0.2) {
+					t.Errorf("MH-1: got %+v", j)
+				}
+				for _, id := range []string{"P1/1", "P2/1"} {
+					if s, _ := n.Span(id); s.To != "MH-1" {
+						t.Errorf("%s ends at %q, want MH-1", id, s.To)
+					}
+				}
+			},
+		},
+		{
+			name: "parallel duct banks stay two spans",
+			c: Campus{Pathways: []Pathway{
+				pw("DB-A", ml(0, 0, 100, 0)),
+				pw("DB-B", ml(0, 0, 100, 0)),
+				pw("DB-C", ml(0, 0.2, 50, 5, 100, 0.2)),
+			}},
+			wantSpans: 3, wantJunctions: 2,
+			check: func(t *testing.T, n *Network) {
+				for _, s := range n.Spans {
+					if s.From != n.Spans[0].From || s.To != n.Spans[0].To {
+						t.Errorf("spans do not share ends: %s", spanIDs(n))
+					}
+				}
+			},
+		},
+		{
+			name:      "right-angle bend",
+			c:         Campus{Pathways: []Pathway{pw("L", ml(0, 0, 100, 0, 100, 100))}},
+			wantSpans: 1, wantJunctions: 2,
+			check: func(t *testing.T, n *Network) {
+				s := n.Spans[0]
+				if len(s.BendsDeg) != 1 || math.Abs(s.BendsDeg[0]-90) > 0.01 {
+					t.Errorf("bends: got %v, want [90]", s.BendsDeg)
+				}
+			},
+		},
+		{
+			name: "multi-line numbering continues",
+			c: Campus{Pathways: []Pathway{
+				pw("M", ml(0, 0, 100, 0), ml(0, 50, 100, 50)),
+				pw("X", ml(50, 50, 50, 100)),
+			}},
+			wantSpans: 4, wantJunctions: 6,
+			check: func(t *testing.T, n *Network) {
+				if got := spanIDs(n); !strings.Contains(got, "M/1:") || !strings.Contains(got, "M/3:") || strings.Contains(got, "M/4") {
+					t.Errorf("got %s, want M/1..M/3", got)
+				}
+			},
+		},
+		{
+			name:      "closed loop",
+			c:         Campus{Pathways: []Pathway{pw("O", ml(0, 0, 100, 0, 100, 100, 0, 0))}},
+			wantSpans: 1, wantJunctions: 1,
+			check: func(t *testing.T, n *Network) {
+				if s := n.Spans[0]; s.From != s.To || len(s.BendsDeg) != 2 {
+					t.Errorf("loop: got %+v", s)
+				}
+			},
+		},
+		{
+			name: "structure off the pathways warns",
+			c: Campus{
+				Pathways:   []Pathway{pw("P", ml(0, 0, 100, 0))},
+				Structures: []Structure{{Source: Source{"t.geojson", 3}, ID: "HH-9", Point: at(50, 5)}},
+			},
+			wantSpans: 1, wantJunctions: 2, wantWarnings: 1,
+			check: func(t *testing.T, n *Network) {
+				if w := n.Warnings[0]; w.Feature != "#3 (HH-9)" || !strings.Contains(w.Message, "not within 0.5 m of any pathway") {
+					t.Errorf("warning: got %+v", w)
+				}
+			},
+		},
+		{
+			name: "densely drawn lines meeting",
+			c: Campus{Pathways: []Pathway{
+				pw("D1", ml(0, 0, 49.9, 0, 50, 0, 50.1, 0, 100, 0)),
+				pw("D2", ml(50, -50, 50, -0.1, 50.05, 0.05, 50, 0.1, 50, 50)),
+			}},
+			wantSpans: 4, wantJunctions: 5,
+		},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			t.Parallel()
+			n := build(t, &tc.c)
+			if len(n.Spans) != tc.wantSpans || len(n.Junctions) != tc.wantJunctions || len(n.Warnings) != tc.wantWarnings {
+				t.Fatalf("%s: got %d spans, %d junctions, %d warnings; want %d, %d, %d\nspans %s\nwarnings %v",
+					tc.name, len(n.Spans), len(n.Junctions), len(n.Warnings), tc.wantSpans, tc.wantJunctions, tc.wantWarnings,
+					spanIDs(n), n.Warnings)
+			}
+			checkNetwork(t, n)
+			if tc.check != nil {
+				tc.check(t, n)
+			}
+		})
+	}
+}
+
+// checkNetwork checks the invariants every Network keeps.
+func checkNetwork(t *testing.T, n *Network) {
+	t.Helper()
+	for i, s := range n.Spans {
+		if i > 0 && n.Spans[i-1].ID >= s.ID {
+			t.Errorf("spans not sorted: %s before %s", n.Spans[i-1].ID, s.ID)
+		}
+		from, ok1 := n.Junction(s.From)
+		to, ok2 := n.Junction(s.To)
+		if !ok1 || !ok2 {
+			t.Errorf("span %s: unknown junction %q or %q", s.ID, s.From, s.To)
+			continue
+		}
+		if len(s.Line) < 2 || s.Line[0] != from.Point || s.Line[len(s.Line)-1] != to.Point {
+			t.Errorf("span %s: line %v does not run from %v to %v", s.ID, s.Line, from.Point, to.Point)
+		}
+		if !(s.LengthM >= 0) || math.Abs(s.LengthM-LengthM(s.Line)) > 1e-9 {
+			t.Errorf("span %s: length %v", s.ID, s.LengthM)
+		}
+		if len(s.BendsDeg) != max(0, len(s.Line)-2) {
+			t.Errorf("span %s: %d bends for %d points", s.ID, len(s.BendsDeg), len(s.Line))
+		}
+	}
+	for i, j := range n.Junctions {
+		if i > 0 && n.Junctions[i-1].ID >= j.ID {
+			t.Errorf("junctions not sorted: %s before %s", n.Junctions[i-1].ID, j.ID)
+		}
+	}
+	for i, a := range n.Access {
+		if i > 0 && n.Access[i-1].Building >= a.Building {
+			t.Errorf("access not sorted")
+		}
+		j, ok := n.Junction(a.Junction)
+		if !ok {
+			t.Errorf("access %s: unknown junction %q", a.Building, a.Junction)
+			continue
+		}
+		if (a.LateralM == 0) != (len(a.Lateral) == 0) {
+			t.Errorf("access %s: LateralM %v with lateral %v", a.Building, a.LateralM, a.Lateral)
+		}
+		if len(a.Lateral) > 0 && a.Lateral[len(a.Lateral)-1] != j.Point {
+			t.Errorf("access %s: lateral ends at %v, junction at %v", a.Building, a.Lateral[len(a.Lateral)-1], j.Point)
+		}
+	}
+}
+
+func TestBuildLengthEllipsoidal(t *testing.T) {
+	t.Parallel()
+	// REFERENCES.md, campus scale (computed with GeographicLib): (40.0, -75.0) → (40.0045,
+	// -75.0) is 499.656 m.
+	c := Campus{Pathways: []Pathway{pw("N", orb.LineString{{-75, 40}, {-75, 40.0045}})}}
+	n := build(t, &c)
+	if got := n.Spans[0].LengthM; math.Abs(got-499.656) > 0.001 {
+		t.Errorf("got %.4f m, want 499.656", got)
+	}
+}
+
+func TestBuildAccess(t *testing.T) {
+	t.Parallel()
+	trunk := pw("T", ml(0, 0, 300, 0))
+	cases := []struct {
+		name         string
+		c            Campus
+		want         Access // Junction "" means any
+		wantLateralM float64
+		wantSpans    int
+	}{
+		{
+			name: "entrance on the pathway",
+			c: Campus{Buildings: []Building{box("B", 100, 20, 10)}, Pathways: []Pathway{trunk, pw("S", ml(100, 0, 100, 10))},
+				Entrances: []Entrance{{Building: "B", Point: at(100, 10.2)}}},
+			want: Access{Building: "B", Junction: "E-B", Via: ViaEntrance}, wantSpans: 3,
+		},
+		{
+			name: "entrance off the pathway takes a lateral",
+			c: Campus{Buildings: []Building{box("B", 100, 20, 10)}, Pathways: []Pathway{trunk},
+				Entrances: []Entrance{{ID: "E1", Building: "B", Point: at(120, 10)}}},
+			want: Access{Building: "B", Via: ViaEntrance}, wantLateralM: 10, wantSpans: 2,
+		},
+		{
+			name: "pathway end inside the footprint",
+			c:    Campus{Buildings: []Building{box("B", 100, 20, 10)}, Pathways: []Pathway{trunk, pw("S", ml(100, 0, 100, 15))}},
+			want: Access{Building: "B", Via: ViaFootprint}, wantSpans: 3,
+		},
+		{
+			name: "nearest pathway within the lateral limit",
+			c:    Campus{Buildings: []Building{box("B", 100, 22, 10)}, Pathways: []Pathway{trunk}},
+			want: Access{Building: "B", Via: ViaLateral}, wantLateralM: 12, wantSpans: 2,
+		},
+		{
+			name: "lateral to a vertex",
+			c:    Campus{Buildings: []Building{box("B", 100, 22, 10)}, Pathways: []Pathway{pw("T", ml(0, 0, 100.3, 0, 300, 0))}},
+			want: Access{Building: "B", Via: ViaLateral}, wantLateralM: 12, wantSpans: 2,
+		},
+		{
+			name: "pathway through the building",
+			c:    Campus{Buildings: []Building{box("B", 100, 0, 10)}, Pathways: []Pathway{trunk}},
+			want: Access{Building: "B", Via: ViaLateral}, wantSpans: 2,
+		},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			t.Parallel()
+			n := build(t, &tc.c)
+			checkNetwork(t, n)
+			a, ok := n.AccessOf("B")
+			if !ok {
+				t.Fatalf("no access for B")
+			}
+			if a.Via != tc.want.Via || (tc.want.Junction != "" && a.Junction != tc.want.Junction) {
+				t.Errorf("%s: got %+v, want %+v", tc.name, a, tc.want)
+			}
+			if math.Abs(a.LateralM-tc.wantLateralM) > 0.1 {
+				t.Errorf("%s: lateral %.3f m, want %.1f", tc.name, a.LateralM, tc.wantLateralM)
+			}
+			if len(n.Spans) != tc.wantSpans {
+				t.Errorf("%s: got spans %s, want %d", tc.name, spanIDs(n), tc.wantSpans)
+			}
+		})
+	}
+}
+
+func TestBuildFootprintPicksBusiestEnd(t *testing.T) {
+	t.Parallel()
+	// Two pathway ends in the footprint: a dead-end spur (1 span) and the end where two
+	// pathways meet (2 spans); the busier one wins.
+	c := Campus{
+		Buildings: []Building{box("B", 0, 0, 20)},
+		Pathways: []Pathway{
+			pw("SPUR", ml(-10, 0, -100, 0)),
+			pw("A", ml(10, 0, 100, 0)),
+			pw("C", ml(10, 0, 10, -100)),
+		},
+	}
+	n := build(t, &c)
+	a, _ := n.AccessOf("B")
+	s, _ := n.Span("A")
+	if a.Via != ViaFootprint || a.Junction != s.From {
+		t.Errorf("got %+v, want the junction %s shared by A and C", a, s.From)
+	}
+}
+
+func TestBuildErrors(t *testing.T) {
+	t.Parallel()
+	cases := []struct {
+		name string
+		c    Campus
+		opt  Options
+		want string
+	}{
+		{"too far", Campus{Buildings: []Building{box("B", 0, 100, 10)}, Pathways: []Pathway{pw("T", ml(0, 0, 100, 0))}},
+			Options{}, `t.geojson: feature #0 "B": no pathway within 30 m of the footprint`},
+		{"entrance too far", Campus{Buildings: []Building{box("B", 0, 100, 10)}, Pathways: []Pathway{pw("T", ml(0, 0, 100, 0))},
+			Entrances: []Entrance{{Building: "B", Point: at(0, 90)}}},
+			Options{}, `no pathway within 30 m of its entrance`},
+		{"limit option", Campus{Buildings: []Building{box("B", 0, 30, 10)}, Pathways: []Pathway{pw("T", ml(0, 0, 100, 0))}},
+			Options{MaxLateralM: 5}, `no pathway within 5 m of the footprint`},
+		{"bad options", Campus{}, Options{SnapM: -1}, "bad options"},
+		{"hand-built short line", Campus{Pathways: []Pathway{pw("T", orb.LineString{at(0, 0), at(0, 0)})}},
+			Options{}, `feature #0 "T": geometry: want a line of at least two distinct positions`},
+		{"hand-built duplicate", Campus{Pathways: []Pathway{pw("T", ml(0, 0, 1, 1)), pw("T", ml(0, 0, 1, 1))}},
+			Options{}, `duplicate pathway id "T"`},
+		{"hand-built NaN", Campus{Structures: []Structure{{ID: "S", Point: orb.Point{math.NaN(), 0}}}},
+			Options{}, `not a finite number`},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			t.Parallel()
+			_, err := Build(&tc.c, tc.opt)
+			if err == nil || !strings.Contains(err.Error(), tc.want) {
+				t.Errorf("%s: got %v, want %q", tc.name, err, tc.want)
+			}
+		})
+	}
+}
+
+// grid campus: a street grid of duct pathways with buildings in the blocks, entrances on some.
+func gridCampus(nx, ny int, rng *rand.Rand) Campus {
+	var c Campus
+	const blockM = 80.0
+	for i := 0; i <= nx; i++ {
+		var ls orb.LineString
+		for j := 0; j <= ny; j++ {
+			ls = append(ls, at(float64(i)*blockM, float64(j)*blockM+rng.Float64()*0.1))
+		}
+		c.Pathways = append(c.Pathways, pw("V"+itoa(i), ls))
+	}
+	for j := 0; j <= ny; j++ {
+		var ls orb.LineString
+		for i := 0; i <= nx; i++ {
+			ls = append(ls, at(float64(i)*blockM+rng.Float64()*0.1, float64(j)*blockM))
+		}
+		c.Pathways = append(c.Pathways, pw("H"+itoa(j), ls))
+	}
+	for i := 0; i < nx; i++ {
+		for j := 0; j < ny; j++ {
+			id := "B" + itoa(i) + "-" + itoa(j)
+			x, y := (float64(i)+0.5)*blockM, (float64(j)+0.5)*blockM
+			c.Buildings = append(c.Buildings, box(id, x, y, 20+rng.Float64()*5))
+			switch (i + j) % 3 {
+			case 0:
+				c.Entrances = append(c.Entrances, Entrance{Building: id, Point: at(x, y-blockM/2)})
+			case 1:
+				c.Pathways = append(c.Pathways, pw("S"+id, ml(x, y, x, y-blockM/2)))
+			}
+			if (i+2*j)%5 == 0 {
+				c.Structures = append(c.Structures, Structure{ID: "MH" + id, Point: at(float64(i)*blockM, y)})
+			}
+		}
+	}
+	return c
+}
+
+func itoa(i int) string { return string(rune('a'+i/26)) + string(rune('a'+i%26)) }
+
+func TestBuildDeterministic(t *testing.T) {
+	t.Parallel()
+	c := gridCampus(6, 5, rand.New(rand.NewPCG(1, 2)))
+	n1 := build(t, &c)
+	checkNetwork(t, n1)
+	if len(n1.Access) != len(c.Buildings) {
+		t.Fatalf("got %d accesses for %d buildings", len(n1.Access), len(c.Buildings))
+	}
+	n2 := build(t, &c)
+	if !reflect.DeepEqual(n1, n2) {
+		t.Fatal("two builds of the same campus differ")
+	}
+	// Reorder every feature list: junction and span IDs must not change.
+	rng := rand.New(rand.NewPCG(3, 4))
+	s := c
+	s.Pathways = append([]Pathway(nil), c.Pathways...)
+	s.Buildings = append([]Building(nil), c.Buildings...)
+	s.Structures = append([]Structure(nil), c.Structures...)
+	s.Entrances = append([]Entrance(nil), c.Entrances...)
+	rng.Shuffle(len(s.Pathways), func(i, j int) { s.Pathways[i], s.Pathways[j] = s.Pathways[j], s.Pathways[i] })
+	rng.Shuffle(len(s.Buildings), func(i, j int) { s.Buildings[i], s.Buildings[j] = s.Buildings[j], s.Buildings[i] })
+	rng.Shuffle(len(s.Structures), func(i, j int) { s.Structures[i], s.Structures[j] = s.Structures[j], s.Structures[i] })
+	rng.Shuffle(len(s.Entrances), func(i, j int) { s.Entrances[i], s.Entrances[j] = s.Entrances[j], s.Entrances[i] })
+	n3 := build(t, &s)
+	if got, want := spanIDs(n3), spanIDs(n1); got != want {
+		t.Errorf("shuffled input: spans\n%s\nwant\n%s", got, want)
+	}
+	if !reflect.DeepEqual(n3, n1) {
+		t.Errorf("shuffled input: networks differ")
+	}
+}
