@@ -173,6 +173,7 @@ var (
 	tFRM = pt{780, 800}
 	tBRN = pt{840, 765}
 	tOBS = pt{740, 940}
+	tSHD = pt{740, 790}
 	tLDG = pt{-445, 0}
 )
 
@@ -207,7 +208,7 @@ func buildings() {
 	building("CHM", "Chemistry Laboratories", rect(-340, -200, -280, -140))
 	building("PHY", "Physics Building", rect(-250, -220, -200, -150))
 	building("BUS", "School of Business", []pt{{-160, -200}, {-120, -200}, {-120, -160}, {-90, -160}, {-90, -120}, {-160, -120}})
-	building("LEC", "Lecture Theatres", rect(-70, -225, -20, -175))
+	building("LEC", "Lecture Theatres", rect(-70, -215, -20, -165))
 	building("EST", "Estates Depot", rect(210, -210, 270, -150))
 	building("STO", "Central Stores", rect(290, -200, 340, -140))
 	building("LDG", "West Gate Lodge", rect(-460, -20, -430, 20), kv{"riser_m", 5})
@@ -219,7 +220,9 @@ func buildings() {
 
 // streets lays the street duct grid: columns at x = -360, -180, 0, 180, 360 and rows at
 // y = -240 (South Road), -80 (Mill Lane), 80 (College Walk), 240 (North Road). The Commons,
-// a lawn between x = -180 and 0 and y = -80 and 80, has no street through it.
+// a lawn between x = -180 and 0 and y = -80 and 80, has no street through it. Where a
+// building is reached by a lateral, the street duct kinks 3 m towards it at a vertex, so that
+// vertex is the nearest point of any pathway to the footprint.
 func streets() {
 	// Westgate Avenue, x = -360.
 	street("WA-1", nil, pt{-360, -240}, pt{-360, -170}, pt{-360, -80})
@@ -230,7 +233,7 @@ func streets() {
 	street("RL-2", nil, pt{-180, -80}, pt{-180, 0}, pt{-180, 80})
 	street("RL-3", nil, pt{-180, 80}, pt{-180, 170}, pt{-180, 240})
 	// Quad Street, x = 0.
-	street("QS-1", nil, pt{0, -240}, pt{0, -200}, pt{0, -150}, pt{0, -80})
+	street("QS-1", nil, pt{0, -240}, pt{-3, -190}, pt{0, -150}, pt{0, -80})
 	street("QS-2", nil, pt{0, -80}, pt{0, 0}, pt{0, 80})
 	street("QS-3", nil, pt{0, 80}, pt{0, 135}, pt{0, 240})
 	// Foundry Road, x = 180; its south part carries the energy plant's feeder.
@@ -239,7 +242,7 @@ func streets() {
 	street("FR-3", nil, pt{180, 80}, pt{180, 130}, pt{180, 180}, pt{180, 240})
 	// Eastgate Avenue, x = 360.
 	street("EA-1", nil, pt{360, -240}, pt{360, -170}, pt{360, -80})
-	street("EA-2", nil, pt{360, -80}, pt{360, 0}, pt{360, 45}, pt{360, 80})
+	street("EA-2", nil, pt{360, -80}, pt{360, 0}, pt{357, 45}, pt{360, 80})
 	street("EA-3", nil, pt{360, 80}, pt{360, 100}, pt{360, 240})
 	// South Road, y = -240. SR-3 has no vertex where the energy tunnel passes beneath it.
 	street("SR-1", nil, pt{-360, -240}, pt{-225, -240}, pt{-180, -240})
@@ -252,7 +255,7 @@ func streets() {
 	street("ML-2", nil, pt{0, -80}, pt{60, -80}, pt{180, -80})
 	street("ML-3", nil, pt{180, -80}, pt{320, -80}, pt{360, -80})
 	// College Walk, y = 80; CW-3 and CW-3B are one duct bank, the second 1.5 m south.
-	street("CW-1", nil, pt{-360, 80}, pt{-310, 80}, pt{-230, 80}, pt{-180, 80})
+	street("CW-1", nil, pt{-360, 80}, pt{-310, 80}, pt{-230, 83}, pt{-180, 80})
 	street("CW-2", nil, pt{0, 80}, pt{60, 80})
 	pathway("CW-3", []kv{{"type", "duct"}, {"spare_ducts", 2}, group("BANK-CW")}, pt{60, 80}, pt{180, 80})
 	pathway("CW-3B", []kv{{"type", "duct"}, {"spare_ducts", 4}, emiLow, group("BANK-CW")},
@@ -321,6 +324,7 @@ func farm() {
 	pathway("A-4", aerial, fj, tBRN)
 	pathway("A-5", aerial, fj, pt{750, 850}, pt{745, 905})
 	pathway("B-FRM", []kv{{"type", "buried"}}, fj, tFRM)
+	pathway("B-SHD", []kv{{"type", "buried"}}, fj, tSHD)
 	pathway("B-OBS", []kv{{"type", "buried"}}, pt{745, 905}, tOBS)
 }
 
