@@ -315,7 +315,7 @@ func tunnels() {
 	pathway("T-5", tun, tCEP, tSCI)
 }
 
-// farm lays the pole line along Coldharbour Lane to the farm and the observatory.
+// farm lays the pole line along Brackle Lane to the farm and the observatory.
 func farm() {
 	aerial := []kv{{"type", "aerial"}}
 	pathway("A-1", aerial, pb1, pt{460, 290}, pt{520, 300}, pt{580, 310}, pt{640, 320}, pt{700, 330})
