@@ -192,10 +192,36 @@ func (f *footprint) segDist(a, b vec) (d, t float64) {
 				if tt, d2 := closestOnSeg(e, a, b); d2 < best {
 					best, bestT = d2, tt
 				}
+				// An edge parallel to the segment is equally near all along their overlap:
+				// take the middle of it rather than a corner.
+				if tm, d2, ok := parallelMid(a, b, c, e); ok && d2 <= best+1e-6 {
+					best, bestT = math.Min(best, d2), tm
+				}
 			}
 		}
 	}
 	return math.Sqrt(best), bestT
+}
+
+// parallelMid reports, for an edge ce parallel to segment ab whose projection overlaps ab,
+// the parameter along ab of the middle of the overlap and the squared distance there.
+func parallelMid(a, b, c, e vec) (t, d2 float64, ok bool) {
+	ab, ce := b.sub(a), e.sub(c)
+	l2 := ab.dot(ab)
+	if l2 == 0 || math.Abs(ab.cross(ce)) > 1e-9*math.Sqrt(l2*ce.dot(ce)) {
+		return 0, 0, false
+	}
+	t0, t1 := c.sub(a).dot(ab)/l2, e.sub(a).dot(ab)/l2
+	if t0 > t1 {
+		t0, t1 = t1, t0
+	}
+	t0, t1 = math.Max(t0, 0), math.Min(t1, 1)
+	if t0 > t1 {
+		return 0, 0, false
+	}
+	t = (t0 + t1) / 2
+	_, d2 = closestOnSeg(lerp(a, b, t), c, e)
+	return t, d2, true
 }
 
 // grid is a uniform spatial index on the local projection: each cell lists the items

@@ -1,0 +1,238 @@
+package geo
+
+import (
+	"bufio"
+	"bytes"
+	"encoding/json"
+	"fmt"
+	"io"
+	"math"
+	"strconv"
+
+	"github.com/paulmach/orb"
+)
+
+// Step is one span of a route, taken From → To, or To → From when Reverse is set.
+type Step struct {
+	SpanID  string
+	Reverse bool
+}
+
+// RouteFeature is one route to draw: from a building's access, along spans, to a building's
+// access. FromBuilding or ToBuilding may be "" for a route that starts or ends at a junction.
+// Props become the feature's properties as they are (nil writes {}).
+type RouteFeature struct {
+	FromBuilding, ToBuilding string
+	Steps                    []Step
+	Props                    map[string]any
+}
+
+// CoordDecimals is how many decimals of a degree the writers keep (1e-7° is about 1 cm).
+const CoordDecimals = 7
+
+// RouteLine returns the geometry of f: the from-building's lateral, the spans in travel
+// direction and the to-building's lateral reversed, with repeated vertices dropped after
+// rounding to CoordDecimals. It fails when a building or span is unknown or when consecutive
+// steps do not meet at a junction. The line has fewer than two points only when the route
+// has no steps and no lateral.
+func (n *Network) RouteLine(f RouteFeature) (orb.LineString, error) {
+	var pts orb.LineString
+	add := func(ls orb.LineString) {
+		for _, p := range ls {
+			p = roundPoint(p)
+			if len(pts) == 0 || pts[len(pts)-1] != p {
+				pts = append(pts, p)
+			}
+		}
+	}
+	cur := ""
+	if f.FromBuilding != "" {
+		a, ok := n.AccessOf(f.FromBuilding)
+		if !ok {
+			return nil, fmt.Errorf("geo: route from unknown building %q", f.FromBuilding)
+		}
+		add(a.Lateral)
+		cur = a.Junction
+	}
+	for i, st := range f.Steps {
+		s, ok := n.Span(st.SpanID)
+		if !ok {
+			return nil, fmt.Errorf("geo: step %d: unknown span %q", i+1, st.SpanID)
+		}
+		from, to, line := s.From, s.To, s.Line
+		if st.Reverse {
+			from, to, line = s.To, s.From, reversed(s.Line)
+		}
+		if cur != "" && from != cur {
+			return nil, fmt.Errorf("geo: step %d: span %q (reverse %v) starts at junction %q, want %q", i+1, s.ID, st.Reverse, from, cur)
+		}
+		add(line)
+		cur = to
+	}
+	if f.ToBuilding != "" {
+		a, ok := n.AccessOf(f.ToBuilding)
+		if !ok {
+			return nil, fmt.Errorf("geo: route to unknown building %q", f.ToBuilding)
+		}
+		if cur != "" && a.Junction != cur {
+			return nil, fmt.Errorf("geo: route ends at junction %q, but building %q is reached at %q", cur, f.ToBuilding, a.Junction)
+		}
+		add(reversed(a.Lateral))
+	}
+	return pts, nil
+}
+
+func reversed(ls orb.LineString) orb.LineString {
+	out := make(orb.LineString, len(ls))
+	for i, p := range ls {
+		out[len(ls)-1-i] = p
+	}
+	return out
+}
+
+func roundPoint(p orb.Point) orb.Point {
+	return orb.Point{roundCoord(p[0]), roundCoord(p[1])}
+}
+
+func roundCoord(x float64) float64 {
+	r := math.Round(x*1e7) / 1e7
+	if r == 0 {
+		return 0 // no "-0"
+	}
+	return r
+}
+
+func fmtCoordOut(x float64) string {
+	return strconv.FormatFloat(roundCoord(x), 'f', -1, 64)
+}
+
+// WriteRoutes writes feats as a GeoJSON FeatureCollection, one LineString feature per route
+// (see RouteLine; a route of fewer than two points gets a null geometry), one feature per
+// line. The output depends only on the network and feats: property keys are sorted and
+// coordinates rounded to CoordDecimals. It fails, writing nothing, on an unknown building or
+// span, steps that do not meet, or properties JSON cannot encode (such as NaN).
+func (n *Network) WriteRoutes(w io.Writer, feats []RouteFeature) error {
+	var buf bytes.Buffer
+	buf.WriteString(`{"type":"FeatureCollection","features":[`)
+	for i, f := range feats {
+		ls, err := n.RouteLine(f)
+		if err != nil {
+			return fmt.Errorf("route %d (%s to %s): %w", i+1, f.FromBuilding, f.ToBuilding, err)
+		}
+		if i > 0 {
+			buf.WriteByte(',')
+		}
+		buf.WriteString("\n")
+		if err := writeFeature(&buf, ls, f.Props); err != nil {
+			return fmt.Errorf("route %d (%s to %s): %w", i+1, f.FromBuilding, f.ToBuilding, err)
+		}
+	}
+	buf.WriteString("\n]}\n")
+	_, err := w.Write(buf.Bytes())
+	return err
+}
+
+// WriteNetwork writes the network as a GeoJSON FeatureCollection for inspection: every span
+// as a LineString (properties id, pathway, from, to, length_m to the centimetre, type,
+// status, bends_deg to a tenth of a degree), then every junction as a Point (id, kind,
+// structure_type), then every lateral (building, junction, via, length_m), each group in ID
+// order, one feature per line.
+func (n *Network) WriteNetwork(w io.Writer) error {
+	bw := bufio.NewWriter(w)
+	var buf bytes.Buffer
+	bw.WriteString(`{"type":"FeatureCollection","features":[`)
+	first := true
+	emit := func(g orb.Geometry, props map[string]any) error {
+		buf.Reset()
+		if !first {
+			buf.WriteByte(',')
+		}
+		first = false
+		buf.WriteString("\n")
+		if err := writeFeature(&buf, g, props); err != nil {
+			return err
+		}
+		_, err := bw.Write(buf.Bytes())
+		return err
+	}
+	for _, s := range n.Spans {
+		bends := make([]float64, len(s.BendsDeg))
+		for i, b := range s.BendsDeg {
+			bends[i] = math.Round(b*10) / 10
+		}
+		if err := emit(s.Line, map[string]any{
+			"id": s.ID, "pathway": s.PathwayID, "from": s.From, "to": s.To,
+			"length_m": math.Round(s.LengthM*100) / 100, "type": s.Type, "status": s.Status, "bends_deg": bends,
+		}); err != nil {
+			return fmt.Errorf("span %q: %w", s.ID, err)
+		}
+	}
+	for _, j := range n.Junctions {
+		props := map[string]any{"id": j.ID, "kind": j.Kind}
+		if j.StructureType != "" {
+			props["structure_type"] = j.StructureType
+		}
+		if err := emit(j.Point, props); err != nil {
+			return fmt.Errorf("junction %q: %w", j.ID, err)
+		}
+	}
+	for _, a := range n.Access {
+		if len(a.Lateral) < 2 {
+			continue
+		}
+		if err := emit(a.Lateral, map[string]any{
+			"building": a.Building, "junction": a.Junction, "via": a.Via, "length_m": math.Round(a.LateralM*100) / 100,
+		}); err != nil {
+			return fmt.Errorf("lateral of %q: %w", a.Building, err)
+		}
+	}
+	bw.WriteString("\n]}\n")
+	return bw.Flush()
+}
+
+// writeFeature writes one GeoJSON Feature with a Point or LineString geometry (or null).
+func writeFeature(buf *bytes.Buffer, g orb.Geometry, props map[string]any) error {
+	buf.WriteString(`{"type":"Feature","geometry":`)
+	switch t := g.(type) {
+	case orb.Point:
+		buf.WriteString(`{"type":"Point","coordinates":`)
+		writePos(buf, t)
+		buf.WriteString(`}`)
+	case orb.LineString:
+		if len(t) < 2 {
+			buf.WriteString("null")
+			break
+		}
+		buf.WriteString(`{"type":"LineString","coordinates":[`)
+		for i, p := range t {
+			if i > 0 {
+				buf.WriteByte(',')
+			}
+			writePos(buf, p)
+		}
+		buf.WriteString(`]}`)
+	default:
+		buf.WriteString("null")
+	}
+	buf.WriteString(`,"properties":`)
+	if props == nil {
+		props = map[string]any{}
+	}
+	var pb bytes.Buffer
+	enc := json.NewEncoder(&pb)
+	enc.SetEscapeHTML(false)
+	if err := enc.Encode(props); err != nil {
+		return fmt.Errorf("properties: %w", err)
+	}
+	buf.Write(bytes.TrimRight(pb.Bytes(), "\n"))
+	buf.WriteString(`}`)
+	return nil
+}
+
+func writePos(buf *bytes.Buffer, p orb.Point) {
+	buf.WriteByte('[')
+	buf.WriteString(fmtCoordOut(p[0]))
+	buf.WriteByte(',')
+	buf.WriteString(fmtCoordOut(p[1]))
+	buf.WriteByte(']')
+}
