@@ -1,0 +1,73 @@
+package main
+
+import (
+	"context"
+	"fmt"
+	"io"
+	"strings"
+
+	"github.com/urfave/cli/v2"
+
+	"spanwright/route"
+)
+
+func checkCommand() *cli.Command {
+	return &cli.Command{
+		Name:      "check",
+		Usage:     "validate a plan or campus files and summarise the pathway network",
+		ArgsUsage: "PLAN.yaml | CAMPUS.geojson...",
+		Flags:     []cli.Flag{unitsFlag},
+		Action: func(c *cli.Context) error {
+			opt, err := writeOptions(c)
+			if err != nil {
+				return err
+			}
+			if c.NArg() == 0 {
+				return usageError{fmt.Errorf("check: name a plan file or one or more campus GeoJSON files")}
+			}
+			return runCheck(c.Context, c.Args().Slice(), opt, c.App.Writer)
+		},
+	}
+}
+
+func runCheck(ctx context.Context, args []string, opt route.WriteOptions, w io.Writer) error {
+	var site *route.Site
+	var err error
+	hub := ""
+	if len(args) == 1 && (strings.HasSuffix(args[0], ".yaml") || strings.HasSuffix(args[0], ".yml")) {
+		p, perr := route.LoadPlan(args[0])
+		if perr != nil {
+			return perr
+		}
+		site, err = route.LoadSite(nil, campusPaths(p), siteOptions(p))
+		hub = p.Hub
+	} else {
+		site, err = route.LoadSite(nil, args, route.SiteOptions{SnapM: route.PlanDefaults.Design.SnapM, MaxLateralM: route.PlanDefaults.Design.MaxLateralM})
+	}
+	if err != nil {
+		return err
+	}
+	rep := site.Check(hub)
+	if err := rep.Print(w, opt); err != nil {
+		return err
+	}
+	if hub != "" && rep.Hub == "" {
+		return fmt.Errorf("%w: unknown hub %q", errInvalid, hub)
+	}
+	if len(rep.Unreachable) > 0 {
+		return fmt.Errorf("%w: %d buildings cannot reach the hub %s: %v", errInvalid, len(rep.Unreachable), rep.Hub, rep.Unreachable)
+	}
+	return nil
+}
+
+func campusPaths(p *route.Plan) []string {
+	out := make([]string, len(p.Campus))
+	for i, f := range p.Campus {
+		out[i] = p.Path(f)
+	}
+	return out
+}
+
+func siteOptions(p *route.Plan) route.SiteOptions {
+	return route.SiteOptions{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM}
+}

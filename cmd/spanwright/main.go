@@ -1,0 +1,20 @@
+// Command spanwright plans campus network backbones: routes, media, loss budgets and costs.
+package main
+
+import (
+	"context"
+	"fmt"
+	"os"
+	"os/signal"
+	"syscall"
+)
+
+func main() {
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
+	err := newApp().RunContext(ctx, os.Args)
+	stop()
+	if err != nil {
+		fmt.Fprintf(os.Stderr, "spanwright: %v\n", err)
+	}
+	os.Exit(exitCode(err))
+}

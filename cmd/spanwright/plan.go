@@ -1,0 +1,58 @@
+package main
+
+import (
+	"context"
+	"fmt"
+	"io"
+	"io/fs"
+
+	"github.com/urfave/cli/v2"
+
+	"spanwright/route"
+)
+
+func planCommand() *cli.Command {
+	return &cli.Command{
+		Name:      "plan",
+		Usage:     "route and specify every backbone link of a plan and write the results",
+		ArgsUsage: "PLAN.yaml",
+		Flags: []cli.Flag{
+			&cli.PathFlag{Name: "out", Usage: "output folder", Required: true, TakesFile: true},
+			unitsFlag,
+		},
+		Action: func(c *cli.Context) error {
+			opt, err := writeOptions(c)
+			if err != nil {
+				return err
+			}
+			if c.NArg() != 1 {
+				return usageError{fmt.Errorf("plan: name exactly one plan file")}
+			}
+			p, err := route.LoadPlan(c.Args().First())
+			if err != nil {
+				return err
+			}
+			return runPlan(c.Context, nil, p, c.Path("out"), opt, c.App.Writer)
+		},
+	}
+}
+
+// runPlan plans p (its campus read from fsys when not nil) and writes the outputs to out.
+func runPlan(ctx context.Context, fsys fs.FS, p *route.Plan, out string, opt route.WriteOptions, w io.Writer) error {
+	site, err := route.LoadSite(fsys, campusPaths(p), siteOptions(p))
+	if err != nil {
+		return err
+	}
+	res, err := route.Solve(ctx, site, p)
+	if err != nil {
+		return err
+	}
+	if err := res.Write(out, opt); err != nil {
+		return err
+	}
+	if err := res.PrintSummary(w, opt); err != nil {
+		return err
+	}
+	fmt.Fprintf(w, "outputs written to %s\n", out)
+	return res.Infeasible()
+}

@@ -1,0 +1,75 @@
+package route
+
+import (
+	"fmt"
+	"os"
+	"path/filepath"
+	"sort"
+)
+
+// OutputFile is one file of a plan's output, rendered in memory before anything is written.
+type OutputFile struct {
+	Name string // file name inside the output folder
+	Data []byte
+}
+
+// WriteFiles writes every file into dir so that none is ever seen half-written: each goes to
+// a temporary name in dir first, and only when all are written are they renamed into place.
+// It refuses to overwrite any path in protect (the run's inputs).
+func WriteFiles(dir string, files []OutputFile, protect []string) error {
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		return fmt.Errorf("create output folder: %w", err)
+	}
+	guard := map[string]bool{}
+	for _, p := range protect {
+		if abs, err := filepath.Abs(p); err == nil {
+			guard[abs] = true
+		}
+	}
+	sorted := append([]OutputFile(nil), files...)
+	sort.Slice(sorted, func(i, j int) bool { return sorted[i].Name < sorted[j].Name })
+	type pending struct{ tmp, final string }
+	var done []pending
+	cleanup := func() {
+		for _, p := range done {
+			os.Remove(p.tmp)
+		}
+	}
+	for _, f := range sorted {
+		final := filepath.Join(dir, f.Name)
+		if abs, err := filepath.Abs(final); err == nil && guard[abs] {
+			cleanup()
+			return fmt.Errorf("output %s would overwrite an input; choose another --out folder", final)
+		}
+		if err := os.MkdirAll(filepath.Dir(final), 0o755); err != nil {
+			cleanup()
+			return fmt.Errorf("create output folder: %w", err)
+		}
+		tmp, err := os.CreateTemp(filepath.Dir(final), "."+filepath.Base(f.Name)+".tmp-*")
+		if err != nil {
+			cleanup()
+			return fmt.Errorf("write %s: %w", final, err)
+		}
+		done = append(done, pending{tmp.Name(), final})
+		_, werr := tmp.Write(f.Data)
+		if werr == nil {
+			werr = tmp.Sync()
+		}
+		if cerr := tmp.Close(); werr == nil {
+			werr = cerr
+		}
+		if werr != nil {
+			cleanup()
+			return fmt.Errorf("write %s: %w", final, werr)
+		}
+	}
+	for i, p := range done {
+		if err := os.Rename(p.tmp, p.final); err != nil {
+			for _, q := range done[i:] {
+				os.Remove(q.tmp)
+			}
+			return fmt.Errorf("write %s: %w", p.final, err)
+		}
+	}
+	return nil
+}

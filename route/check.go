@@ -1,0 +1,129 @@
+package route
+
+import (
+	"fmt"
+	"io"
+	"sort"
+	"text/tabwriter"
+
+	"gonum.org/v1/gonum/graph/topo"
+)
+
+// CheckReport is what `spanwright check` prints about a campus.
+type CheckReport struct {
+	Buildings   int
+	ByRole      map[string]int // "mc", "ic", "served"
+	Pathways    []PathwayTally // by type then status
+	Structures  int
+	Junctions   int
+	Spans       int
+	Components  int      // connected components of the pathway network that hold a building
+	Hub         string   // "" when none could be resolved
+	Unreachable []string // buildings with no path to the hub
+	Warnings    []string
+}
+
+// PathwayTally counts pathways of one type and status and their length in metres.
+type PathwayTally struct {
+	Type, Status string
+	Pathways     int
+	LengthM      float64
+}
+
+// Check summarises the site; hub may be "" (then the mc building, if any, is used).
+func (s *Site) Check(hub string) CheckReport {
+	r := CheckReport{Buildings: len(s.Campus.Buildings), ByRole: map[string]int{},
+		Structures: len(s.Campus.Structures), Junctions: len(s.Net.Junctions), Spans: len(s.Net.Spans)}
+	for _, b := range s.Campus.Buildings {
+		role := b.Role
+		if role == "" {
+			role = "served"
+		}
+		r.ByRole[role]++
+	}
+	type key struct{ t, st string }
+	tally := map[key]*PathwayTally{}
+	pathways := map[key]map[string]bool{}
+	for _, sp := range s.Net.Spans {
+		k := key{sp.Type, sp.Status}
+		if tally[k] == nil {
+			tally[k] = &PathwayTally{Type: sp.Type, Status: sp.Status}
+			pathways[k] = map[string]bool{}
+		}
+		tally[k].LengthM += sp.LengthM
+		pathways[k][sp.PathwayID] = true
+	}
+	for k, t := range tally {
+		t.Pathways = len(pathways[k])
+		r.Pathways = append(r.Pathways, *t)
+	}
+	sort.Slice(r.Pathways, func(i, j int) bool {
+		a, b := r.Pathways[i], r.Pathways[j]
+		if a.Type != b.Type {
+			return a.Type < b.Type
+		}
+		return a.Status < b.Status
+	})
+	withBuilding := map[int64]bool{}
+	for _, a := range s.Net.Access {
+		n, _ := s.Graph.NodeOf(a.Junction)
+		withBuilding[n] = true
+	}
+	for _, comp := range topo.ConnectedComponents(s.Graph) {
+		for _, n := range comp {
+			if withBuilding[n.ID()] {
+				r.Components++
+				break
+			}
+		}
+	}
+	if hub == "" {
+		hub = s.MainCrossConnect()
+	}
+	if _, ok := s.building[hub]; ok {
+		r.Hub = hub
+		r.Unreachable = s.Unreachable(hub)
+	}
+	for _, w := range s.Net.Warnings {
+		r.Warnings = append(r.Warnings, w.File+": "+w.Feature+": "+w.Message)
+	}
+	return r
+}
+
+// Print writes the report as aligned text; lengths in metres, or feet when imperial.
+func (r CheckReport) Print(w io.Writer, opt WriteOptions) error {
+	unit, scale := "m", 1.0
+	if opt.imperial() {
+		unit, scale = "ft", FtPerM
+	}
+	fmt.Fprintf(w, "buildings   %d (mc %d, ic %d, served %d)\n", r.Buildings, r.ByRole["mc"], r.ByRole["ic"], r.ByRole["served"])
+	fmt.Fprintf(w, "structures  %d\n", r.Structures)
+	fmt.Fprintf(w, "junctions   %d\n", r.Junctions)
+	fmt.Fprintf(w, "spans       %d\n", r.Spans)
+	fmt.Fprintf(w, "components  %d (holding buildings)\n", r.Components)
+	fmt.Fprintln(w, "pathways:")
+	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', tabwriter.AlignRight)
+	fmt.Fprintf(tw, "  type\tstatus\tcount\tlength %s\t\n", unit)
+	var total float64
+	for _, p := range r.Pathways {
+		fmt.Fprintf(tw, "  %s\t%s\t%d\t%.1f\t\n", p.Type, p.Status, p.Pathways, p.LengthM*scale)
+		total += p.LengthM
+	}
+	fmt.Fprintf(tw, "  all\t\t\t%.1f\t\n", total*scale)
+	if err := tw.Flush(); err != nil {
+		return err
+	}
+	switch {
+	case r.Hub == "":
+		fmt.Fprintln(w, "hub         none (no building has role mc and none was named)")
+	case len(r.Unreachable) == 0:
+		fmt.Fprintf(w, "hub         %s: every building can reach it\n", r.Hub)
+	default:
+		fmt.Fprintf(w, "hub         %s: %d buildings cannot reach it: %v\n", r.Hub, len(r.Unreachable), r.Unreachable)
+	}
+	fmt.Fprintf(w, "warnings    %d\n", len(r.Warnings))
+	for _, m := range r.Warnings {
+		fmt.Fprintf(w, "  warning: %s\n", m)
+	}
+	return nil
+}

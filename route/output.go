@@ -1,0 +1,226 @@
+package route
+
+import (
+	"bytes"
+	"encoding/csv"
+	"encoding/json"
+	"fmt"
+	"io"
+	"strconv"
+	"strings"
+
+	"spanwright/geo"
+)
+
+// Unit systems for the outputs' edges; inside, everything is metric.
+const (
+	UnitsMetric   = "metric"
+	UnitsImperial = "imperial"
+)
+
+// FtPerM converts metres to feet (1 ft = 0.3048 m exactly, by the 1959 international agreement).
+const FtPerM = 1 / 0.3048
+
+// WriteOptions says how outputs are rendered.
+type WriteOptions struct {
+	Units string // UnitsMetric (default) or UnitsImperial: CSV and stdout only; JSON and GeoJSON stay metric
+}
+
+func (o WriteOptions) imperial() bool { return o.Units == UnitsImperial }
+
+// lengthCol returns a length column's header and a formatter for its values.
+func (o WriteOptions) lengthCol(name string) (string, func(m float64) string) {
+	if o.imperial() {
+		return name + "_ft", func(m float64) string { return strconv.FormatFloat(m*FtPerM, 'f', 1, 64) }
+	}
+	return name + "_m", func(m float64) string { return strconv.FormatFloat(m, 'f', 1, 64) }
+}
+
+// Outputs renders every output file of the result in memory.
+func (r *Result) Outputs(opt WriteOptions) ([]OutputFile, error) {
+	routes, err := r.routesGeoJSON()
+	if err != nil {
+		return nil, err
+	}
+	links, err := r.linksCSV(opt)
+	if err != nil {
+		return nil, err
+	}
+	sum, err := r.summaryJSON()
+	if err != nil {
+		return nil, err
+	}
+	return []OutputFile{
+		{Name: "routes.geojson", Data: routes},
+		{Name: "links.csv", Data: links},
+		{Name: "summary.json", Data: sum},
+	}, nil
+}
+
+// Inputs lists the files the plan read, which outputs must never overwrite.
+func (r *Result) Inputs() []string {
+	in := []string{r.Plan.File}
+	in = append(in, r.Site.Campus.Files...)
+	for _, f := range []string{r.Plan.Catalog, r.Plan.Rules, r.Plan.Prices} {
+		if f != "" {
+			in = append(in, r.Plan.Path(f))
+		}
+	}
+	return in
+}
+
+// Write renders the outputs and writes them atomically into dir.
+func (r *Result) Write(dir string, opt WriteOptions) error {
+	files, err := r.Outputs(opt)
+	if err != nil {
+		return err
+	}
+	return WriteFiles(dir, files, r.Inputs())
+}
+
+func round1(x float64) float64 {
+	v, _ := strconv.ParseFloat(strconv.FormatFloat(x, 'f', 1, 64), 64)
+	return v
+}
+
+func (r *Result) routesGeoJSON() ([]byte, error) {
+	var feats []geo.RouteFeature
+	for _, l := range r.Legs {
+		if !l.Feasible {
+			continue
+		}
+		feats = append(feats, geo.RouteFeature{
+			FromBuilding: l.Link.To,
+			ToBuilding:   l.Link.From,
+			Steps:        l.Steps,
+			Props: map[string]any{
+				"link":     l.Link.ID,
+				"from":     l.Link.From,
+				"to":       l.Link.To,
+				"leg":      l.Name,
+				"rate":     l.Link.Rate,
+				"route_m":  round1(l.RouteM),
+				"riser_m":  round1(l.RiserM),
+				"pathways": append([]string{}, l.Pathways...),
+			},
+		})
+	}
+	var buf bytes.Buffer
+	if err := r.Site.Net.WriteRoutes(&buf, feats); err != nil {
+		return nil, err
+	}
+	return buf.Bytes(), nil
+}
+
+func (r *Result) linksCSV(opt WriteOptions) ([]byte, error) {
+	var buf bytes.Buffer
+	w := csv.NewWriter(&buf)
+	routeH, routeF := opt.lengthCol("route")
+	latH, latF := opt.lengthCol("lateral")
+	riserH, riserF := opt.lengthCol("riser")
+	w.Write([]string{"link", "leg", "from", "to", "rate", "future_rate", "strands", routeH, latH, riserH, "pathways", "feasible", "reason"})
+	for _, l := range r.Legs {
+		w.Write([]string{l.Link.ID, l.Name, l.Link.From, l.Link.To, l.Link.Rate, l.Link.FutureRate,
+			strconv.Itoa(l.Link.Strands), routeF(l.RouteM), latF(l.LateralM), riserF(l.RiserM),
+			strings.Join(l.Pathways, " "), strconv.FormatBool(l.Feasible), l.Reason})
+	}
+	w.Flush()
+	return buf.Bytes(), w.Error()
+}
+
+// Summary is the machine-readable digest of a planned scenario (summary.json).
+type Summary struct {
+	Scenario     string  `json:"scenario"`
+	Hub          string  `json:"hub"`
+	Buildings    int     `json:"buildings"`
+	Links        int     `json:"links"`
+	Legs         int     `json:"legs"`
+	Infeasible   int     `json:"infeasible_legs"`
+	TotalRouteM  float64 `json:"total_route_m"`
+	NewTrenchM   float64 `json:"new_trench_m"`    // proposed pathway opened by the plan
+	DiverseLinks int     `json:"diverse_links"`   // links with two disjoint feasible legs
+	DiverseShort int     `json:"diverse_missing"` // links that asked for a diverse route and did not get one
+	// WorstMarginDB is the smallest loss margin of any feasible fibre leg; null when none.
+	WorstMarginDB *float64       `json:"worst_margin_db"`
+	MediaMix      map[string]int `json:"media_mix"` // feasible legs per medium
+	Currency      string         `json:"currency,omitempty"`
+	TotalCents    int64          `json:"total_cents"`
+	BudgetCents   int64          `json:"budget_cents"`
+	// OverBudgetCents is total minus budget: positive over, negative under; 0 without a budget.
+	OverBudgetCents int64    `json:"over_budget_cents"`
+	OverBudgetPct   float64  `json:"over_budget_pct"`
+	WarningCount    int      `json:"warning_count"`
+	Warnings        []string `json:"warnings"`
+}
+
+// Summarize digests the result.
+func (r *Result) Summarize() Summary {
+	s := Summary{Scenario: r.Plan.Name, Hub: r.Hub, Buildings: len(r.Site.Campus.Buildings),
+		Links: len(r.Links), Legs: len(r.Legs), Warnings: append([]string{}, r.Warnings...),
+		MediaMix: map[string]int{}, Currency: r.Currency, NewTrenchM: round1(r.NewTrenchM),
+		BudgetCents: int64(r.Plan.Budget)}
+	feasibleLegs := map[string]int{}
+	for _, l := range r.Legs {
+		s.TotalCents += l.Cost.TotalCents()
+		if !l.Feasible {
+			s.Infeasible++
+			continue
+		}
+		feasibleLegs[l.Link.ID]++
+		s.TotalRouteM += l.RouteM
+		if l.Medium != "" {
+			s.MediaMix[l.Medium]++
+		}
+		if len(l.Losses) > 0 && (s.WorstMarginDB == nil || l.WorstMarginDB < *s.WorstMarginDB) {
+			m := l.WorstMarginDB
+			s.WorstMarginDB = &m
+		}
+	}
+	s.TotalCents += r.ExtraCents
+	for _, l := range r.Links {
+		if l.Diverse {
+			if feasibleLegs[l.ID] == 2 {
+				s.DiverseLinks++
+			} else {
+				s.DiverseShort++
+			}
+		}
+	}
+	if s.BudgetCents > 0 {
+		s.OverBudgetCents = s.TotalCents - s.BudgetCents
+		s.OverBudgetPct = round1(100 * float64(s.OverBudgetCents) / float64(s.BudgetCents))
+	}
+	s.TotalRouteM = round1(s.TotalRouteM)
+	s.WarningCount = len(s.Warnings)
+	return s
+}
+
+func (r *Result) summaryJSON() ([]byte, error) {
+	b, err := json.MarshalIndent(r.Summarize(), "", "  ")
+	if err != nil {
+		return nil, fmt.Errorf("summary: %w", err)
+	}
+	return append(b, '\n'), nil
+}
+
+// PrintSummary writes a short human summary of the result.
+func (r *Result) PrintSummary(w io.Writer, opt WriteOptions) error {
+	s := r.Summarize()
+	unit, scale := "m", 1.0
+	if opt.imperial() {
+		unit, scale = "ft", FtPerM
+	}
+	fmt.Fprintf(w, "plan %q: hub %s, %d links, %d legs, %.1f %s of route\n", s.Scenario, s.Hub, s.Links, s.Legs, s.TotalRouteM*scale, unit)
+	if s.Infeasible > 0 {
+		fmt.Fprintf(w, "%d legs infeasible:\n", s.Infeasible)
+		for _, l := range r.Legs {
+			if !l.Feasible {
+				fmt.Fprintf(w, "  %s %s: %s\n", l.Link.ID, l.Name, l.Reason)
+			}
+		}
+	}
+	if s.WarningCount > 0 {
+		fmt.Fprintf(w, "%d warnings (see summary.json)\n", s.WarningCount)
+	}
+	return nil
+}

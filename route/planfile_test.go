@@ -1,0 +1,99 @@
+package route
+
+import (
+	"errors"
+	"strings"
+	"testing"
+)
+
+func TestParsePlan(t *testing.T) {
+	t.Parallel()
+	p, err := ParsePlan("dir/plan.yaml", []byte(`
+name: Example backbone
+campus: [campus.geojson]
+hub: ADM
+budget: 1250000.50
+defaults: {rate: 25G, strands: 24}
+links:
+  - {to: LIB, rate: 40G, redundancy: diverse}
+  - {from: LIB, to: GYM, rate: 1G, growth: 0}
+  - {to: SHED, skip: true}
+design: {loss_margin_db: 2, allow_new_trench: false}
+`))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if p.Name != "Example backbone" || p.Hub != "ADM" || p.Budget != 125000050 {
+		t.Errorf("got name %q hub %q budget %d", p.Name, p.Hub, p.Budget)
+	}
+	if p.Path(p.Campus[0]) != "dir/campus.geojson" {
+		t.Errorf("campus path: got %q, want dir/campus.geojson", p.Path(p.Campus[0]))
+	}
+	// Keys the plan leaves out keep their defaults, also inside a partly given mapping.
+	if p.Defaults.Rate != "25G" || p.Defaults.Strands != 24 || p.Defaults.Growth != 0.5 || p.Defaults.Redundancy != RedundancyNone {
+		t.Errorf("defaults: got %+v", p.Defaults)
+	}
+	if p.Design.LossMarginDB != 2 || p.Design.AllowNewTrench || p.Design.MaxLateralM != 30 || p.Design.SnapM != 0.5 || p.Design.Objective != ObjectiveCost {
+		t.Errorf("design: got %+v", p.Design)
+	}
+	if len(p.Links) != 3 || p.Links[1].From != "LIB" || p.Links[1].Growth == nil || *p.Links[1].Growth != 0 || !p.Links[2].Skip {
+		t.Errorf("links: got %+v", p.Links)
+	}
+	if p.Links[0].Line != 8 {
+		t.Errorf("first link line: got %d, want 8", p.Links[0].Line)
+	}
+}
+
+func TestParsePlanErrors(t *testing.T) {
+	t.Parallel()
+	cases := []struct {
+		name, yaml string
+		want       []string
+	}{
+		{"not yaml", "campus: [", []string{"plan.yaml: invalid plan: not YAML"}},
+		{"not a mapping", "- a\n- b\n", []string{"want a mapping of plan keys"}},
+		{"unknown key", "campus: [c.geojson]\nbudgit: 3\n", []string{"plan.yaml:2: budgit: invalid plan: unknown key"}},
+		{"unknown nested key", "campus: [c.geojson]\ndesign: {snap: 2}\n", []string{"plan.yaml:2: design:", "field snap not found"}},
+		{"unknown link key", "campus: [c.geojson]\nlinks:\n  - {to: A, speed: 10G}\n", []string{"link at line 3", "field speed not found"}},
+		{"no campus", "name: x\n", []string{"campus: invalid plan: want at least one campus GeoJSON file"}},
+		{"bad budget", "campus: [c]\nbudget: 12.345\n", []string{"budget", "want an amount"}},
+		{"bad redundancy", "campus: [c]\ndefaults: {redundancy: double}\n", []string{`defaults.redundancy: invalid plan: want "none" or "diverse", got "double"`}},
+		{"link without to", "campus: [c]\nlinks:\n  - {from: A}\n", []string{"plan.yaml:3: links: invalid plan: a link needs to:"}},
+		{"bad objective", "campus: [c]\ndesign: {objective: speed}\n", []string{`design.objective`, `got "speed"`}},
+		{"several problems at once", "campus: [c]\ndefaults: {strands: 0, growth: -1}\ndesign: {snap_m: 0}\n",
+			[]string{"defaults.strands", "defaults.growth", "design.snap_m"}},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			_, err := ParsePlan("plan.yaml", []byte(tc.yaml))
+			if err == nil {
+				t.Fatalf("%s: got no error", tc.name)
+			}
+			if !errors.Is(err, ErrPlan) {
+				t.Errorf("%s: error does not wrap ErrPlan: %v", tc.name, err)
+			}
+			for _, w := range tc.want {
+				if !strings.Contains(err.Error(), w) {
+					t.Errorf("%s: got %q, want it to contain %q", tc.name, err, w)
+				}
+			}
+		})
+	}
+}
+
+func TestParseCents(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		in   string
+		want int64
+		ok   bool
+	}{
+		{"0", 0, true}, {"12.35", 1235, true}, {"12.3", 1230, true}, {"1_250_000", 125000000, true},
+		{"-1", 0, false}, {"1.234", 0, false}, {"abc", 0, false}, {"1e6", 0, false}, {"", 0, false},
+	} {
+		got, err := ParseCents(tc.in)
+		if (err == nil) != tc.ok || got != tc.want {
+			t.Errorf("ParseCents(%q): got %d, %v; want %d, ok %v", tc.in, got, err, tc.want, tc.ok)
+		}
+	}
+}
