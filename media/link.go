@@ -26,13 +26,16 @@ type Link struct {
 // ChannelM is the full channel length in metres: route, risers and slack.
 func (l Link) ChannelM() float64 { return l.RouteM + l.RiserM + l.SlackM }
 
-// Loss is the loss budget of a fibre link at one wavelength.
+// Loss is the loss budget of a fibre link at one wavelength. Losses are reported at every
+// wavelength the link is tested at (multimode 850 and 1300 nm, single-mode 1310 and
+// 1550 nm); LimitDB and MarginDB apply only where the application operates.
 type Loss struct {
 	WavelengthNM int
 	LossDB       float64 // cabled attenuation × length + connections + splices
-	LimitDB      float64 // the application's maximum channel insertion loss
-	MarginDB     float64 // LimitDB − LossDB
-	FieldLimitDB float64 // acceptance limit for a loss test set on the installed link
+	LimitDB      float64 // the application's maximum channel insertion loss; 0 when !Operating
+	MarginDB     float64 // LimitDB − LossDB; 0 when !Operating
+	FieldLimitDB float64 // acceptance limit for a loss test set on the installed link (TIA-568.3-D Tier 1)
+	Operating    bool    // the application transmits at this wavelength
 }
 
 // Rejection says why one candidate medium was not chosen.
@@ -48,7 +51,7 @@ type Choice struct {
 	Medium       string // catalog medium id, e.g. "os2"
 	Application  string // IEEE 802.3 PHY name, e.g. "10GBASE-LR"
 	Construction string // e.g. "osp-loose-tube"
-	Losses       []Loss // fibre only, one per operating wavelength, ascending
+	Losses       []Loss // fibre only, one per test wavelength, ascending; see Loss.Operating
 	CostCents    int64  // installed cost of the medium: cable, terminations, transceivers
 	Reason       string // why this medium, or why no medium fits when !Feasible
 	Rejected     []Rejection

@@ -1,0 +1,707 @@
+package media
+
+import (
+	"fmt"
+	"math"
+	"sort"
+	"strings"
+)
+
+// Rule ids of Rejections that no rule file defines.
+const (
+	RuleCost          = "cost"           // the medium was feasible but cost more
+	RuleNoApplication = "no-application" // no application at the link's rate runs on the medium
+)
+
+// EngineOptions tunes the rule engine. Zero values mean: no loss margin, no copper between
+// buildings, and the catalog's connection losses.
+type EngineOptions struct {
+	LossMarginDB       float64 // margin every fibre loss budget must keep, in dB
+	AllowOutdoorCopper bool    // permit copper between buildings
+	PairLossDB         float64 // design loss of a mated connector pair, in dB; 0 = catalog
+	SpliceLossDB       float64 // design loss of a splice, in dB; 0 = catalog
+}
+
+// Engine applies a rule file to a catalog and prices the survivors from a price book. It is
+// safe for concurrent use once built.
+type Engine struct {
+	cat    *Catalog
+	rules  *Rules
+	prices *PriceBook
+	opt    EngineOptions
+	design Connections // connection losses for LossDB
+	field  Connections // the catalog's, for FieldLimitDB
+	// breakpoints are the positive numbers in the rule conditions: candidate channel lengths
+	// at which feasibility may change, for MaxChannelM.
+	breakpoints []float64
+}
+
+// NewEngine checks that the rules, catalog and price book fit together and returns the
+// engine. A nil catalog, rule set or price book means the embedded default. It reports at
+// once every rule naming an unknown medium, application or construction, every price the
+// catalog needs that the book lacks (see Needs), and bad options.
+func NewEngine(c *Catalog, r *Rules, p *PriceBook, opt EngineOptions) (*Engine, error) {
+	if c == nil {
+		c = DefaultCatalog()
+	}
+	if r == nil {
+		r = DefaultRules()
+	}
+	if p == nil {
+		p = DefaultPriceBook()
+	}
+	var errs ErrorList
+	for _, o := range []struct {
+		name string
+		v    float64
+	}{{"loss_margin_db", opt.LossMarginDB}, {"pair_loss_db", opt.PairLossDB}, {"splice_loss_db", opt.SpliceLossDB}} {
+		if !finite(o.v) || o.v < 0 {
+			errs.Add(fmt.Errorf("media: option %s: %w: want dB >= 0, got %g", o.name, ErrBadValue, o.v))
+		}
+	}
+	e := &Engine{cat: c, rules: r, prices: p, opt: opt,
+		design: Connections{PairDB: c.MatedPairDB, SpliceDB: c.SpliceDB},
+		field:  Connections{PairDB: c.MatedPairDB, SpliceDB: c.SpliceDB}}
+	if opt.PairLossDB > 0 {
+		e.design.PairDB = opt.PairLossDB
+	}
+	if opt.SpliceLossDB > 0 {
+		e.design.SpliceDB = opt.SpliceLossDB
+	}
+	for _, rule := range r.Rules {
+		e.checkRule(rule, &errs)
+	}
+	if err := p.Check(Needs(c)); err != nil {
+		for _, m := range err.(*ErrorList).Errs {
+			errs.Add(m)
+		}
+	}
+	if err := errs.Err(); err != nil {
+		return nil, err
+	}
+	return e, nil
+}
+
+// checkRule reports rule references the catalog cannot satisfy, and collects breakpoints.
+func (e *Engine) checkRule(rule *Rule, errs *ErrorList) {
+	item := "rule " + fmt.Sprintf("%q", rule.ID)
+	for _, id := range rule.Media {
+		if e.cat.Medium(id) == nil {
+			errs.Add(&FileError{File: e.rules.File, Line: rule.Line, Item: item, Field: "media",
+				Err: fmt.Errorf("%w: no medium %q in %s", ErrUnknownReference, id, e.cat.File)})
+		}
+	}
+	for _, lit := range rule.When.lits {
+		known := false
+		switch lit.fact {
+		case "medium":
+			known = e.cat.Medium(lit.value) != nil
+		case "application", "future_application":
+			known = e.cat.Application(lit.value) != nil || (lit.fact == "future_application" && lit.value == "none")
+		case "construction":
+			for _, m := range e.cat.Media {
+				known = known || m.Construction(lit.value) != nil
+			}
+		default:
+			known = true
+		}
+		if !known {
+			line, col := rule.whenPos(lit.off)
+			errs.Add(&FileError{File: e.rules.File, Line: line, Col: col, Item: item, Field: "when",
+				Err: fmt.Errorf("%w: no %s %q in %s", ErrUnknownReference, lit.fact, lit.value, e.cat.File)})
+		}
+	}
+	collectNumbers(rule.When.root, &e.breakpoints)
+}
+
+func collectNumbers(x expr, out *[]float64) {
+	switch x := x.(type) {
+	case litExpr:
+		if x.t == typeNumber && x.v.num > 0 {
+			*out = append(*out, x.v.num)
+		}
+	case notExpr:
+		collectNumbers(x.x, out)
+	case logicExpr:
+		collectNumbers(x.x, out)
+		collectNumbers(x.y, out)
+	case cmpExpr:
+		collectNumbers(x.x, out)
+		collectNumbers(x.y, out)
+	}
+}
+
+// Catalog returns the engine's catalog.
+func (e *Engine) Catalog() *Catalog { return e.cat }
+
+// Rules returns the engine's rules.
+func (e *Engine) Rules() *Rules { return e.rules }
+
+// PriceBook returns the engine's price book.
+func (e *Engine) PriceBook() *PriceBook { return e.prices }
+
+// Media returns the catalog's medium ids in catalog order.
+func (e *Engine) Media() []string {
+	ids := make([]string, len(e.cat.Media))
+	for i, m := range e.cat.Media {
+		ids[i] = m.ID
+	}
+	return ids
+}
+
+// candidate is one (medium, application, construction) evaluated for one link.
+type candidate struct {
+	m          *Medium
+	a          *Application
+	k          *Construction
+	r          Reach
+	mi, ai, ki int
+	losses     []Loss
+	marginDB   float64 // worst operating margin; 0 for copper
+	f          [nFacts]value
+	failed     int    // index of the first rule failed, -1 when none
+	nFailed    int    // how many rules it fails
+	why        string // the first failed rule's rendered reason
+	prefer     []bool // per prefer rule, in rule order
+	costCents  int64
+	strands    int
+}
+
+// strandsFor is what a link needs of application a: the link's strands but at least the
+// application's (for copper: 4-pair cables).
+func strandsFor(l Link, a *Application) int {
+	if l.Strands > a.Strands {
+		return l.Strands
+	}
+	return a.Strands
+}
+
+// evaluate computes the facts of one candidate and applies the rules to it.
+func (e *Engine) evaluate(l Link, mi, ai, ki int) *candidate {
+	m, a := e.cat.Media[mi], e.cat.Applications[ai]
+	k := m.Constructions[ki]
+	r, _ := a.On(m.ID)
+	channel := l.ChannelM()
+	c := &candidate{m: m, a: a, k: k, r: r, mi: mi, ai: ai, ki: ki, failed: -1, strands: strandsFor(l, a)}
+	c.losses = Losses(k, a, r, channel, l.ConnectorPairs, l.Splices, e.design, e.field)
+	f := &c.f
+	f[fChannelM].num = channel
+	f[fRouteM].num = l.RouteM
+	f[fRiserM].num = l.RiserM
+	f[fSlackM].num = l.SlackM
+	f[fRateGbps].num = l.RateGbps
+	f[fFutureRateGbps].num = l.FutureRateGbps
+	emi := l.MaxEMI
+	if emi == "" {
+		emi = "none"
+	}
+	f[fMaxEMI].str = emi
+	f[fEMILevel].num = emiLevels[emi]
+	f[fOutdoor].b = l.Outdoor
+	for _, t := range l.PathwayTypes {
+		if i, ok := pathwayFacts[t]; ok {
+			f[i].b = true
+		}
+	}
+	f[fConnectorPairs].num = float64(l.ConnectorPairs)
+	f[fSplices].num = float64(l.Splices)
+	f[fStrands].num = float64(c.strands)
+	f[fKind].str = m.Kind
+	f[fMedium].str = m.ID
+	f[fApplication].str = a.Name
+	f[fConstruction].str = k.ID
+	f[fConstructionOutdoorRated].b = k.OutdoorRated
+	f[fConstructionListed].b = k.Listing != ""
+	f[fConstructionPlenumRated].b = k.PlenumRated
+	f[fReachM].num = r.RangeM
+	if w, ok := worstLoss(c.losses); ok {
+		c.marginDB = w.MarginDB
+		f[fLossDB].num = w.LossDB
+		f[fLimitDB].num = w.LimitDB
+		f[fMarginDB].num = w.MarginDB
+		f[fWavelengthNM].num = float64(w.WavelengthNM)
+	}
+	f[fLossMarginDB].num = e.opt.LossMarginDB
+	f[fAllowOutdoorCopper].b = e.opt.AllowOutdoorCopper
+	e.future(l, c)
+	for ri, rule := range e.rules.Rules {
+		if !rule.appliesTo(m) {
+			continue
+		}
+		holds := rule.When.eval(f[:])
+		switch rule.Effect {
+		case EffectPrefer:
+			c.prefer = append(c.prefer, holds)
+			continue
+		case EffectExclude:
+			if !holds {
+				continue
+			}
+		case EffectRequire:
+			if holds {
+				continue
+			}
+		}
+		// Every rule is applied, not only up to the first failure, so that a rejection can
+		// report the construction that came closest (fewest failures).
+		c.nFailed++
+		if c.failed < 0 {
+			c.failed = ri
+			c.why = rule.reason.render(f[:])
+		}
+	}
+	if c.failed < 0 {
+		c.costCents = e.cost(c, channel)
+	}
+	return c
+}
+
+// future fills the future_* facts: whether some application at the future rate on the same
+// medium and construction reaches the channel and closes its budget with the plan's margin.
+func (e *Engine) future(l Link, c *candidate) {
+	f := &c.f
+	f[fFutureApplication].str = "none"
+	if l.FutureRateGbps <= 0 {
+		f[fFutureFits].b = true
+		return
+	}
+	channel := l.ChannelM()
+	var best *Application
+	var bestR Reach
+	bestMargin, bestScore := 0.0, -1
+	for _, a := range e.cat.Applications {
+		r, ok := a.On(c.m.ID)
+		if !ok || a.RateGbps != l.FutureRateGbps {
+			continue
+		}
+		margin := 0.0
+		if w, ok := worstLoss(Losses(c.k, a, r, channel, l.ConnectorPairs, l.Splices, e.design, e.field)); ok {
+			margin = w.MarginDB
+		}
+		reaches := r.RangeM >= channel
+		closes := !c.m.Fibre() || margin >= e.opt.LossMarginDB
+		score := 0 // 2 fits, 1 reaches but the budget fails, 0 short
+		switch {
+		case reaches && closes:
+			score = 2
+		case reaches:
+			score = 1
+		}
+		if score > bestScore || (score == bestScore && score == 0 && r.RangeM > bestR.RangeM) ||
+			(score == bestScore && score == 1 && margin > bestMargin) {
+			best, bestR, bestMargin, bestScore = a, r, margin, score
+		}
+	}
+	if best == nil {
+		f[fFutureNote].str = fmt.Sprintf("no application at %s runs on %s", FormatRate(l.FutureRateGbps), c.m.ID)
+		return
+	}
+	f[fFutureApplication].str = best.Name
+	f[fFutureReachM].num = bestR.RangeM
+	f[fFutureMarginDB].num = bestMargin
+	switch bestScore {
+	case 2:
+		f[fFutureFits].b = true
+	case 1:
+		f[fFutureNote].str = fmt.Sprintf("%s leaves a loss margin of %s dB, below the required %s dB",
+			best.Name, formatNum(bestMargin), formatNum(e.opt.LossMarginDB))
+	default:
+		f[fFutureNote].str = fmt.Sprintf("%s reaches %s m", best.Name, formatNum(bestR.RangeM))
+	}
+}
+
+// cost is the installed cost of a candidate, in cents: cable per metre (all cables needed
+// for the strands) times the channel length, one termination per strand (per 4-pair cable
+// for copper) at each end, and one transceiver at each end. Two transceivers serve the link
+// whether the PHY is duplex (2 fibres) or parallel (8 fibres in one module each end).
+// Labour, pathway and enclosures are not part of it.
+func (e *Engine) cost(c *candidate, channelM float64) int64 {
+	size, n := c.k.Fit(c.strands)
+	perM, _ := e.prices.Price(PriceKey{Item: PriceCable, Medium: c.m.ID, Construction: c.k.ID, Count: size.Count})
+	term, _ := e.prices.Price(PriceKey{Item: PriceTermination, Medium: c.m.ID})
+	trx, _ := e.prices.Price(PriceKey{Item: PriceTransceiver, Name: c.a.Transceiver})
+	return MulCents(perM*int64(n), channelM) + 2*int64(c.strands)*term + 2*trx
+}
+
+// checkLink lists what is wrong with a link's facts, or "" when nothing is.
+func checkLink(l Link) string {
+	var bad []string
+	for _, q := range []struct {
+		name string
+		v    float64
+	}{{"route_m", l.RouteM}, {"riser_m", l.RiserM}, {"slack_m", l.SlackM}, {"future_rate_gbps", l.FutureRateGbps}} {
+		if !finite(q.v) || q.v < 0 {
+			bad = append(bad, fmt.Sprintf("%s is %g, want >= 0", q.name, q.v))
+		}
+	}
+	if !finite(l.RateGbps) || l.RateGbps <= 0 {
+		bad = append(bad, fmt.Sprintf("rate_gbps is %g, want > 0", l.RateGbps))
+	}
+	if _, ok := emiLevels[l.MaxEMI]; !ok {
+		bad = append(bad, fmt.Sprintf("max_emi is %q, want none, low or high", l.MaxEMI))
+	}
+	for _, q := range []struct {
+		name string
+		v    int
+	}{{"connector_pairs", l.ConnectorPairs}, {"splices", l.Splices}, {"strands", l.Strands}} {
+		if q.v < 0 {
+			bad = append(bad, fmt.Sprintf("%s is %d, want >= 0", q.name, q.v))
+		}
+	}
+	return strings.Join(bad, "; ")
+}
+
+func linkName(l Link) string {
+	if l.ID == "" {
+		return "link"
+	}
+	return "link " + l.ID
+}
+
+// Choose decides the medium of one link. It evaluates every candidate at the link's rate:
+// each medium, each application at that rate on the medium, each construction of the
+// medium. A candidate fails at the first exclude or require rule it fails. Among the rest,
+// prefer rules rank first, then the lowest installed cost (see CostCents), then the larger
+// loss margin, then catalog order. Rejected holds, in catalog order, for each medium not
+// chosen: one Rejection with Rule "cost" (or the deciding prefer rule) when it had a
+// feasible candidate, otherwise one per application at the rate, reporting the first rule
+// failed by the construction that failed the fewest rules. When no candidate is feasible Feasible is false and Reason says
+// why each medium failed.
+func (e *Engine) Choose(l Link) Choice {
+	if msg := checkLink(l); msg != "" {
+		return Choice{Reason: fmt.Sprintf("%s: bad facts: %s", linkName(l), msg)}
+	}
+	var all, ok []*candidate
+	for ai, a := range e.cat.Applications {
+		if a.RateGbps != l.RateGbps {
+			continue
+		}
+		for mi, m := range e.cat.Media {
+			if _, on := a.On(m.ID); !on {
+				continue
+			}
+			for ki := range m.Constructions {
+				c := e.evaluate(l, mi, ai, ki)
+				all = append(all, c)
+				if c.failed < 0 {
+					ok = append(ok, c)
+				}
+			}
+		}
+	}
+	if len(all) == 0 {
+		return Choice{Reason: fmt.Sprintf("%s: no application runs at %s; the catalog has %s",
+			linkName(l), FormatRate(l.RateGbps), rateList(e.cat.Rates()))}
+	}
+	sort.SliceStable(ok, func(i, j int) bool { return better(ok[i], ok[j]) })
+	var ch Choice
+	var win *candidate
+	if len(ok) > 0 {
+		win = ok[0]
+		ch = Choice{Feasible: true, Medium: win.m.ID, Application: win.a.Name, Construction: win.k.ID,
+			Losses: win.losses, CostCents: win.costCents}
+	}
+	var summary []string
+	for mi, m := range e.cat.Media {
+		if win != nil && mi == win.mi {
+			continue
+		}
+		rej, failed := e.rejections(l, m, mi, all, ok, win)
+		ch.Rejected = append(ch.Rejected, rej...)
+		if win == nil {
+			best := 0
+			for i := range rej {
+				if failed[i] > failed[best] {
+					best = i
+				}
+			}
+			summary = append(summary, rej[best].Reason)
+		}
+	}
+	if win == nil {
+		ch.Reason = fmt.Sprintf("%s: no medium carries %s over %s m: %s", linkName(l), FormatRate(l.RateGbps),
+			formatNum(l.ChannelM()), strings.Join(summary, "; "))
+		return ch
+	}
+	ch.Reason = e.reason(l, win, ok)
+	return ch
+}
+
+// better ranks feasible candidates: prefer rules, cost, margin, catalog order.
+func better(a, b *candidate) bool {
+	for i := range a.prefer {
+		if a.prefer[i] != b.prefer[i] {
+			return a.prefer[i]
+		}
+	}
+	if a.costCents != b.costCents {
+		return a.costCents < b.costCents
+	}
+	if a.marginDB != b.marginDB {
+		return a.marginDB > b.marginDB
+	}
+	if a.mi != b.mi {
+		return a.mi < b.mi
+	}
+	if a.ai != b.ai {
+		return a.ai < b.ai
+	}
+	return a.ki < b.ki
+}
+
+// rejections explains why medium m lost, with the index of the rule each rejection's
+// candidate failed (-1 for one that lost on cost or preference).
+func (e *Engine) rejections(l Link, m *Medium, mi int, all, ok []*candidate, win *candidate) ([]Rejection, []int) {
+	for _, c := range ok {
+		if c.mi != mi {
+			continue
+		}
+		// c is m's best feasible candidate, since ok is sorted.
+		rule, how := RuleCost, ""
+		for i := range c.prefer {
+			if win.prefer[i] && !c.prefer[i] {
+				pr := e.preferRule(i)
+				rule = pr.ID
+				how = fmt.Sprintf("%s with %s on %s is feasible at %s %s, but rule %s prefers %s: %s",
+					m.ID, c.a.Name, c.k.ID, FormatCents(c.costCents), e.prices.Currency, pr.ID, win.m.ID, pr.reason.render(win.f[:]))
+				break
+			}
+		}
+		if how == "" {
+			how = fmt.Sprintf("%s with %s on %s costs %s %s, %s more than %s", m.ID, c.a.Name, c.k.ID,
+				FormatCents(c.costCents), e.prices.Currency, FormatCents(c.costCents-win.costCents), win.m.ID)
+			if c.costCents == win.costCents {
+				how = fmt.Sprintf("%s with %s on %s costs the same %s %s as %s, which has the larger margin or comes first in the catalog",
+					m.ID, c.a.Name, c.k.ID, FormatCents(c.costCents), e.prices.Currency, win.m.ID)
+			}
+		}
+		return []Rejection{{Medium: m.ID, Rule: rule, Reason: fmt.Sprintf("%s rejected by %s: %s", m.ID, rule, how)}}, []int{-1}
+	}
+	var out []Rejection
+	var failed []int
+	for ai := range e.cat.Applications {
+		var pick *candidate
+		for _, c := range all {
+			if c.mi == mi && c.ai == ai && (pick == nil || c.nFailed < pick.nFailed ||
+				(c.nFailed == pick.nFailed && c.failed > pick.failed)) {
+				pick = c
+			}
+		}
+		if pick == nil {
+			continue
+		}
+		rule := e.rules.Rules[pick.failed]
+		out = append(out, Rejection{Medium: m.ID, Rule: rule.ID,
+			Reason: fmt.Sprintf("%s rejected by %s: %s", m.ID, rule.ID, pick.why)})
+		failed = append(failed, pick.failed)
+	}
+	if len(out) == 0 {
+		out = append(out, Rejection{Medium: m.ID, Rule: RuleNoApplication,
+			Reason: fmt.Sprintf("%s rejected by %s: no application at %s runs on %s", m.ID, RuleNoApplication, FormatRate(l.RateGbps), m.ID)})
+		failed = append(failed, -1)
+	}
+	return out, failed
+}
+
+// preferRule is the i-th prefer rule.
+func (e *Engine) preferRule(i int) *Rule {
+	n := 0
+	for _, r := range e.rules.Rules {
+		if r.Effect == EffectPrefer {
+			if n == i {
+				return r
+			}
+			n++
+		}
+	}
+	panic("media: prefer rule index out of range")
+}
+
+// reason is the one-sentence explanation of a choice.
+func (e *Engine) reason(l Link, win *candidate, ok []*candidate) string {
+	var b strings.Builder
+	fmt.Fprintf(&b, "%s with %s on %s ", win.m.ID, win.a.Name, win.k.ID)
+	media := map[string]bool{}
+	for _, c := range ok {
+		media[c.m.ID] = true
+	}
+	if len(media) == 1 {
+		fmt.Fprintf(&b, "is the only feasible medium, at %s %s", FormatCents(win.costCents), e.prices.Currency)
+	} else {
+		fmt.Fprintf(&b, "is the cheapest of %d feasible media at %s %s", len(media), FormatCents(win.costCents), e.prices.Currency)
+		for i, p := range win.prefer {
+			if p {
+				fmt.Fprintf(&b, " among those rule %s prefers", e.preferRule(i).ID)
+				break
+			}
+		}
+	}
+	fmt.Fprintf(&b, " for a %s m channel", formatNum(l.ChannelM()))
+	if w, found := worstLoss(win.losses); found {
+		fmt.Fprintf(&b, ", loss %s dB against %s dB at %d nm (margin %s dB)", formatNum(w.LossDB), formatNum(w.LimitDB),
+			w.WavelengthNM, formatNum(w.MarginDB))
+	} else {
+		fmt.Fprintf(&b, ", within its %s m reach", formatNum(win.r.RangeM))
+	}
+	return b.String()
+}
+
+// withChannel is l with its route length set so that its channel is channelM metres.
+func withChannel(l Link, channelM float64) Link {
+	l.RouteM = channelM - l.RiserM - l.SlackM
+	return l
+}
+
+// feasibleAt reports whether medium mi carries l at channelM metres with some application
+// and construction.
+func (e *Engine) feasibleAt(l Link, mi int, channelM float64) bool {
+	l = withChannel(l, channelM)
+	m := e.cat.Media[mi]
+	for ai, a := range e.cat.Applications {
+		r, on := a.On(m.ID)
+		if !on || a.RateGbps != l.RateGbps || channelM > r.RangeM {
+			continue
+		}
+		for ki := range m.Constructions {
+			if e.evaluate(l, mi, ai, ki).failed < 0 {
+				return true
+			}
+		}
+	}
+	return false
+}
+
+// MaxChannelM is the longest channel in metres over which medium can carry rateGbps, and
+// futureRateGbps when it is > 0, for a link with l's other facts (connector pairs, splices,
+// EMI, outdoor, risers, slack; l's rates and route length are ignored). It honours every
+// rule of the engine: the applications' reach, the multimode 2 km cap, the copper 100 m
+// cap and the loss budget solved for length, as the default rules state them. It never
+// exceeds the longest operating range of an application at the rate on the medium. It
+// returns 0 when the medium never carries the rate for such a link, or is unknown.
+func (e *Engine) MaxChannelM(medium string, rateGbps, futureRateGbps float64, l Link) float64 {
+	mi := -1
+	for i, m := range e.cat.Media {
+		if m.ID == medium {
+			mi = i
+		}
+	}
+	l.RateGbps, l.FutureRateGbps = rateGbps, futureRateGbps
+	if mi < 0 || checkLink(withChannel(l, l.RiserM+l.SlackM)) != "" {
+		return 0
+	}
+	m := e.cat.Media[mi]
+	// Feasibility changes only where some fact crosses a number: the numbers in the rules,
+	// the applications' ranges, and the lengths at which a loss budget closes exactly.
+	points := append([]float64(nil), e.breakpoints...)
+	for _, a := range e.cat.Applications {
+		r, on := a.On(m.ID)
+		if !on || (a.RateGbps != rateGbps && a.RateGbps != futureRateGbps) {
+			continue
+		}
+		points = append(points, r.RangeM)
+		for _, k := range m.Constructions {
+			for _, nm := range a.WavelengthsNM {
+				at, _ := k.AttenDBPerKm(nm)
+				if x := MaxLengthM(at, r.MaxLossDB-e.opt.LossMarginDB, l.ConnectorPairs, l.Splices, e.design.PairDB, e.design.SpliceDB); finite(x) {
+					points = append(points, x)
+				}
+			}
+		}
+	}
+	sort.Float64s(points)
+	for i := len(points) - 1; i >= 0; i-- {
+		x := points[i]
+		if x <= 0 || (i+1 < len(points) && points[i+1] == x) {
+			continue
+		}
+		for _, y := range []float64{x, x * (1 - 1e-9)} {
+			if e.feasibleAt(l, mi, y) {
+				return e.refine(l, mi, y, points[i+1:])
+			}
+		}
+	}
+	return 0
+}
+
+// refine extends a feasible length lo towards the next breakpoint above it, in case a rule
+// compares facts in a way the breakpoints do not capture; it bisects to 1 mm.
+func (e *Engine) refine(l Link, mi int, lo float64, above []float64) float64 {
+	if len(above) == 0 {
+		return lo
+	}
+	hi := above[0]
+	if !e.feasibleAt(l, mi, (lo+hi)/2) {
+		return lo
+	}
+	for hi-lo > 0.001 {
+		mid := (lo + hi) / 2
+		if e.feasibleAt(l, mi, mid) {
+			lo = mid
+		} else {
+			hi = mid
+		}
+	}
+	return lo
+}
+
+// constructionFor is the cheapest construction of medium m for strands strands that may
+// run outdoors (outdoor) or is listed for indoor use (!outdoor), with its per-metre price.
+func (e *Engine) constructionFor(m *Medium, strands int, outdoor bool) (*Construction, int64) {
+	var best *Construction
+	bestCents := int64(math.MaxInt64)
+	for _, k := range m.Constructions {
+		if (outdoor && !k.OutdoorRated) || (!outdoor && k.Listing == "") {
+			continue
+		}
+		size, n := k.Fit(strands)
+		perM, ok := e.prices.Price(PriceKey{Item: PriceCable, Medium: m.ID, Construction: k.ID, Count: size.Count})
+		if ok && perM*int64(n) < bestCents {
+			best, bestCents = k, perM*int64(n)
+		}
+	}
+	return best, bestCents
+}
+
+func (e *Engine) mustMedium(id string) *Medium {
+	m := e.cat.Medium(id)
+	if m == nil {
+		panic("media: unknown medium " + id)
+	}
+	return m
+}
+
+// CablePerMCents is the price in cents per metre of cable for strands strands (4-pair
+// cables for copper) of medium: the cheapest outdoor-rated construction when outdoor, else
+// the cheapest listed (riser or plenum) one, with as many cables as the largest size needs.
+// It is a lower bound of what Choose prices, for routing. It returns -1 when the medium has
+// no such construction, and panics on a medium not in the catalog.
+func (e *Engine) CablePerMCents(medium string, strands int, outdoor bool) int64 {
+	k, c := e.constructionFor(e.mustMedium(medium), strands, outdoor)
+	if k == nil {
+		return -1
+	}
+	return c
+}
+
+// FixedCents is the length-independent part of the installed cost of a link on medium at
+// rateGbps, in cents: one termination per strand (per 4-pair cable for copper) at both ends
+// for max(strands, the application's strands), plus two transceivers, for the application
+// at that rate on the medium that makes this cheapest, whatever its reach. Use MaxChannelM
+// for reach and Choose for the final price. It returns -1 when no application at the rate
+// runs on the medium, and panics on a medium not in the catalog.
+func (e *Engine) FixedCents(medium string, rateGbps float64, strands int) int64 {
+	m := e.mustMedium(medium)
+	term, _ := e.prices.Price(PriceKey{Item: PriceTermination, Medium: m.ID})
+	best := int64(-1)
+	for _, a := range e.cat.Applications {
+		if _, on := a.On(m.ID); !on || a.RateGbps != rateGbps {
+			continue
+		}
+		trx, _ := e.prices.Price(PriceKey{Item: PriceTransceiver, Name: a.Transceiver})
+		c := 2*int64(strandsFor(Link{Strands: strands}, a))*term + 2*trx
+		if best < 0 || c < best {
+			best = c
+		}
+	}
+	return best
+}

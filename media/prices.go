@@ -1,0 +1,538 @@
+package media
+
+import (
+	_ "embed"
+	"fmt"
+	"os"
+	"regexp"
+	"sort"
+	"strconv"
+	"strings"
+	"time"
+
+	"go.yaml.in/yaml/v3"
+)
+
+// Price items, the values of PriceKey.Item. Money items are read with PriceBook.Price, in
+// cents; the labour productivity items (Rate*) with PriceBook.Rate, per hour.
+const (
+	PriceCable         = "cable"          // per metre of one cable: Medium, Construction, Count strands (1 for a 4-pair copper cable)
+	PriceTermination   = "termination"    // per strand end (connector or pigtail) for fibre, per 4-pair cable end (jack) for copper: Medium
+	PriceSpliceTray    = "splice-tray"    // each
+	PriceSpliceClosure = "splice-closure" // each
+	PriceEnclosure     = "enclosure"      // fibre enclosure, each: Count ports
+	PriceAdapterPanel  = "adapter-panel"  // each: Count ports
+	PriceCopperPanel   = "copper-panel"   // copper patch panel, each: Count ports
+	PriceInnerduct     = "innerduct"      // per metre
+	PriceStructure     = "structure"      // each: Name pull-box, handhole or maintenance-hole
+	PriceTrench        = "trench"         // per metre: Name surface (turf, asphalt, concrete)
+	PriceBore          = "bore"           // directional bore, per metre
+	PriceRestoration   = "restoration"    // per metre: Name surface
+	PriceAddedDuct     = "added-duct"     // one more duct in a new trench or bore, per metre
+	PriceLabourHour    = "labour-hour"    // one hour of labour
+	PriceTransceiver   = "transceiver"    // each: Name, the catalog application's price key
+
+	RatePull        = "pull-rate"        // metres pulled per hour: Name pathway type (duct, tunnel, aerial, buried, tray)
+	RateSplice      = "splice-rate"      // splices per hour
+	RateTermination = "termination-rate" // terminations per hour
+	RateLossTest    = "loss-test-rate"   // strands tested with a loss test set per hour
+	RateOTDRTest    = "otdr-test-rate"   // strands tested with an OTDR per hour
+)
+
+// PriceKey names one price in a price book. Only the fields the item uses are set.
+type PriceKey struct {
+	Item         string // a Price* or Rate* constant
+	Medium       string
+	Construction string
+	Name         string
+	Count        int
+}
+
+// String names the price in words, e.g. "cable os2 osp-loose-tube 12".
+func (k PriceKey) String() string {
+	parts := []string{k.Item}
+	for _, s := range []string{k.Medium, k.Construction, k.Name} {
+		if s != "" {
+			parts = append(parts, s)
+		}
+	}
+	if k.Count > 0 {
+		parts = append(parts, strconv.Itoa(k.Count))
+	}
+	return strings.Join(parts, " ")
+}
+
+// Path is where the price goes in a price book file, e.g. "cable_per_m.os2.osp-loose-tube.12".
+func (k PriceKey) Path() string {
+	n := strconv.Itoa(k.Count)
+	switch k.Item {
+	case PriceCable:
+		return "cable_per_m." + k.Medium + "." + k.Construction + "." + n
+	case PriceTermination:
+		return "termination_each." + k.Medium
+	case PriceSpliceTray:
+		return "splice_tray.each"
+	case PriceSpliceClosure:
+		return "splice_closure_each"
+	case PriceEnclosure:
+		return "fibre_enclosures." + n
+	case PriceAdapterPanel:
+		return "adapter_panels." + n
+	case PriceCopperPanel:
+		return "copper_patch_panels." + n
+	case PriceInnerduct:
+		return "innerduct_per_m"
+	case PriceStructure:
+		return "structures_each." + k.Name
+	case PriceTrench:
+		return "trench_per_m." + k.Name
+	case PriceBore:
+		return "directional_bore_per_m"
+	case PriceRestoration:
+		return "restoration_per_m." + k.Name
+	case PriceAddedDuct:
+		return "added_duct_per_m"
+	case PriceLabourHour:
+		return "labour.hourly_rate"
+	case PriceTransceiver:
+		return "transceivers." + k.Name
+	case RatePull:
+		return "labour.pull_m_per_hour." + k.Name
+	case RateSplice:
+		return "labour.splices_per_hour"
+	case RateTermination:
+		return "labour.terminations_per_hour"
+	case RateLossTest:
+		return "labour.tests_per_hour.loss"
+	case RateOTDRTest:
+		return "labour.tests_per_hour.otdr"
+	}
+	return k.String()
+}
+
+func isRate(item string) bool { return strings.HasSuffix(item, "-rate") }
+
+// PriceBook holds the prices of a plan: money in integer cents of Currency, labour
+// productivity per hour, and markups in basis points (1 bp = 0.01 %).
+type PriceBook struct {
+	File       string
+	Label      string // e.g. "demo prices, invented, not a quotation"
+	Currency   string // ISO 4217 code
+	PricesDate string // YYYY-MM-DD, the date the prices hold for
+
+	SpliceTrayStrands int // splices one tray holds
+
+	ContingencyBP int64 // contingency on the subtotal
+	OverheadBP    int64 // overhead on the subtotal
+	TaxBP         int64 // tax on subtotal plus contingency and overhead
+
+	money map[PriceKey]int64
+	rates map[PriceKey]float64
+}
+
+// Price returns the price for k in cents and whether the book has it.
+func (p *PriceBook) Price(k PriceKey) (int64, bool) {
+	c, ok := p.money[k]
+	return c, ok
+}
+
+// Rate returns the labour productivity for k (a Rate* item), per hour, and whether the book
+// has it.
+func (p *PriceBook) Rate(k PriceKey) (float64, bool) {
+	r, ok := p.rates[k]
+	return r, ok
+}
+
+// Keys returns every key the book prices, sorted by item, medium, construction, name and count.
+func (p *PriceBook) Keys() []PriceKey {
+	keys := make([]PriceKey, 0, len(p.money)+len(p.rates))
+	for k := range p.money {
+		keys = append(keys, k)
+	}
+	for k := range p.rates {
+		keys = append(keys, k)
+	}
+	sortKeys(keys)
+	return keys
+}
+
+func sortKeys(keys []PriceKey) {
+	sort.Slice(keys, func(i, j int) bool {
+		a, b := keys[i], keys[j]
+		if a.Item != b.Item {
+			return a.Item < b.Item
+		}
+		if a.Medium != b.Medium {
+			return a.Medium < b.Medium
+		}
+		if a.Construction != b.Construction {
+			return a.Construction < b.Construction
+		}
+		if a.Name != b.Name {
+			return a.Name < b.Name
+		}
+		return a.Count < b.Count
+	})
+}
+
+// Check reports every key of needs the book lacks, at once, as an *ErrorList of *FileError
+// with ErrMissingPrice, each naming the key and the path to add it at; nil when all are there.
+func (p *PriceBook) Check(needs []PriceKey) error {
+	var errs ErrorList
+	seen := map[PriceKey]bool{}
+	sorted := append([]PriceKey(nil), needs...)
+	sortKeys(sorted)
+	for _, k := range sorted {
+		if seen[k] {
+			continue
+		}
+		seen[k] = true
+		var ok bool
+		if isRate(k.Item) {
+			_, ok = p.rates[k]
+		} else {
+			_, ok = p.money[k]
+		}
+		if !ok {
+			errs.Add(&FileError{File: p.File, Item: "price " + strconv.Quote(k.String()),
+				Err: fmt.Errorf("%w: add %s", ErrMissingPrice, k.Path())})
+		}
+	}
+	return errs.Err()
+}
+
+// ApplyBP returns bp basis points of cents, rounded half away from zero.
+func ApplyBP(cents, bp int64) int64 {
+	x := cents * bp
+	if x >= 0 {
+		return (x + 5000) / 10000
+	}
+	return -((-x + 5000) / 10000)
+}
+
+// FormatCents writes cents as a decimal amount with two decimals: 123456 → "1234.56".
+func FormatCents(cents int64) string {
+	sign := ""
+	if cents < 0 {
+		sign, cents = "-", -cents
+	}
+	return fmt.Sprintf("%s%d.%02d", sign, cents/100, cents%100)
+}
+
+// MulCents returns perUnitCents × quantity rounded half away from zero to a whole cent, e.g.
+// a price per metre times a length in metres.
+func MulCents(perUnitCents int64, quantity float64) int64 {
+	x := float64(perUnitCents) * quantity
+	if x < 0 {
+		return -int64(-x + 0.5)
+	}
+	return int64(x + 0.5)
+}
+
+var decimalRE = regexp.MustCompile(`^[0-9][0-9_]*(\.[0-9]{1,2})?$`)
+
+// parseDecimal2 reads a non-negative decimal with at most two decimals as hundredths,
+// without going through a float: "12.35" → 1235, "7" → 700.
+func parseDecimal2(s string) (int64, bool) {
+	s = strings.TrimSpace(s)
+	if !decimalRE.MatchString(s) {
+		return 0, false
+	}
+	whole, frac, _ := strings.Cut(strings.ReplaceAll(s, "_", ""), ".")
+	for len(frac) < 2 {
+		frac += "0"
+	}
+	v, err := strconv.ParseInt(whole+frac, 10, 64)
+	if err != nil || v > 1e15 {
+		return 0, false
+	}
+	return v, true
+}
+
+// cents is a money amount in a price file, read exactly from its decimal text.
+type cents int64
+
+func (c *cents) UnmarshalYAML(n *yaml.Node) error {
+	if n.Kind != yaml.ScalarNode || (n.Tag != "!!int" && n.Tag != "!!float" && n.Tag != "!!str") {
+		return fmt.Errorf("%w: want an amount such as 12.35, got %s", ErrWrongType, kindName(n))
+	}
+	v, ok := parseDecimal2(n.Value)
+	if !ok {
+		return fmt.Errorf("%w: want an amount >= 0 with at most two decimals, such as 12.35, got %q", ErrBadValue, n.Value)
+	}
+	*c = cents(v)
+	return nil
+}
+
+// basisPoints is a percentage in a price file, read exactly: 8.25 → 825.
+type basisPoints int64
+
+func (b *basisPoints) UnmarshalYAML(n *yaml.Node) error {
+	if n.Kind != yaml.ScalarNode || (n.Tag != "!!int" && n.Tag != "!!float") {
+		return fmt.Errorf("%w: want a percentage such as 8.25, got %s", ErrWrongType, kindName(n))
+	}
+	v, ok := parseDecimal2(n.Value)
+	if !ok || v > 100_00 {
+		return fmt.Errorf("%w: want a percentage from 0 to 100 with at most two decimals, got %q", ErrBadValue, n.Value)
+	}
+	*b = basisPoints(v)
+	return nil
+}
+
+type priceFile struct {
+	Pos                 pos                                 `yaml:"-"`
+	Label               string                              `yaml:"label"`
+	Currency            string                              `yaml:"currency"`
+	PricesDate          string                              `yaml:"prices_date"`
+	CablePerM           map[string]map[string]map[int]cents `yaml:"cable_per_m"`
+	TerminationEach     map[string]cents                    `yaml:"termination_each"`
+	SpliceTray          spliceTrayYAML                      `yaml:"splice_tray"`
+	SpliceClosureEach   cents                               `yaml:"splice_closure_each"`
+	FibreEnclosures     map[int]cents                       `yaml:"fibre_enclosures"`
+	AdapterPanels       map[int]cents                       `yaml:"adapter_panels"`
+	CopperPatchPanels   map[int]cents                       `yaml:"copper_patch_panels"`
+	InnerductPerM       cents                               `yaml:"innerduct_per_m"`
+	StructuresEach      map[string]cents                    `yaml:"structures_each"`
+	TrenchPerM          map[string]cents                    `yaml:"trench_per_m"`
+	DirectionalBorePerM cents                               `yaml:"directional_bore_per_m"`
+	RestorationPerM     map[string]cents                    `yaml:"restoration_per_m"`
+	AddedDuctPerM       cents                               `yaml:"added_duct_per_m"`
+	Labour              labourYAML                          `yaml:"labour"`
+	Transceivers        map[string]cents                    `yaml:"transceivers"`
+	Markups             markupsYAML                         `yaml:"markups_percent"`
+}
+
+type spliceTrayYAML struct {
+	Pos     pos   `yaml:"-"`
+	Each    cents `yaml:"each"`
+	Strands int   `yaml:"strands"`
+}
+
+type labourYAML struct {
+	Pos                 pos                `yaml:"-"`
+	HourlyRate          cents              `yaml:"hourly_rate"`
+	PullMPerHour        map[string]float64 `yaml:"pull_m_per_hour"`
+	SplicesPerHour      float64            `yaml:"splices_per_hour"`
+	TerminationsPerHour float64            `yaml:"terminations_per_hour"`
+	TestsPerHour        testsYAML          `yaml:"tests_per_hour"`
+}
+
+type testsYAML struct {
+	Pos  pos     `yaml:"-"`
+	Loss float64 `yaml:"loss"`
+	OTDR float64 `yaml:"otdr"`
+}
+
+type markupsYAML struct {
+	Pos         pos         `yaml:"-"`
+	Contingency basisPoints `yaml:"contingency"`
+	Overhead    basisPoints `yaml:"overhead"`
+	Tax         basisPoints `yaml:"tax"`
+}
+
+// Names the price book accepts as map keys, besides media, constructions and applications.
+var (
+	surfaces       = []string{"turf", "asphalt", "concrete"}
+	structureTypes = []string{"pull-box", "handhole", "maintenance-hole"}
+	pathwayTypes   = []string{"duct", "tunnel", "aerial", "buried", "tray"}
+)
+
+var currencyRE = regexp.MustCompile(`^[A-Z]{3}$`)
+
+//go:embed prices-demo.yaml
+var pricesYAML []byte
+
+// DefaultPricesFile is the name the embedded demo price book goes by in messages.
+const DefaultPricesFile = "prices-demo.yaml (embedded)"
+
+// DefaultPriceBook returns the embedded demo price book, whose prices are invented. It
+// panics if the embedded file is invalid, which the package tests rule out.
+func DefaultPriceBook() *PriceBook {
+	p, err := ParsePriceBook(DefaultPricesFile, pricesYAML)
+	if err != nil {
+		panic("media: embedded price book: " + err.Error())
+	}
+	return p
+}
+
+// LoadPriceBook reads and validates a price book file.
+func LoadPriceBook(path string) (*PriceBook, error) {
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return nil, fmt.Errorf("read price book: %w", err)
+	}
+	return ParsePriceBook(path, data)
+}
+
+// ParsePriceBook reads a price book from data; name is the file name used in messages.
+// Unknown keys, bad amounts and bad names are all reported at once in an *ErrorList of
+// *FileError naming the key and its line. Amounts are decimal with at most two decimals and
+// are read without a float (12.35 → 1235 cents).
+func ParsePriceBook(name string, data []byte) (*PriceBook, error) {
+	var errs ErrorList
+	var f priceFile
+	d := decoder{file: name, errs: &errs}
+	d.parseYAML(data, &f)
+	if errs.Len() > 0 && f.Pos.Keys == nil {
+		return nil, errs.Err()
+	}
+	c := checker{file: name, errs: &errs}
+	c.require(f.Pos, "", "label", "currency", "prices_date")
+	p := &PriceBook{File: name, Label: f.Label, Currency: f.Currency, PricesDate: f.PricesDate,
+		SpliceTrayStrands: f.SpliceTray.Strands,
+		ContingencyBP:     int64(f.Markups.Contingency), OverheadBP: int64(f.Markups.Overhead), TaxBP: int64(f.Markups.Tax),
+		money: map[PriceKey]int64{}, rates: map[PriceKey]float64{}}
+	if f.Pos.has("label") && strings.TrimSpace(f.Label) == "" {
+		c.bad(f.Pos, "", "label", ErrBadValue, "want a label saying whose prices these are, got an empty string")
+	}
+	if f.Pos.has("currency") && !currencyRE.MatchString(f.Currency) {
+		c.bad(f.Pos, "", "currency", ErrBadValue, "want an ISO 4217 code such as USD, got %q", f.Currency)
+	}
+	if f.Pos.has("prices_date") {
+		if _, err := time.Parse("2006-01-02", f.PricesDate); err != nil {
+			c.bad(f.Pos, "", "prices_date", ErrBadValue, "want a date YYYY-MM-DD, got %q", f.PricesDate)
+		}
+	}
+	money := func(k PriceKey, v cents) { p.money[k] = int64(v) }
+	for _, m := range sortedStrings(f.CablePerM) {
+		for _, k := range sortedStrings(f.CablePerM[m]) {
+			for _, n := range sortedInts(f.CablePerM[m][k]) {
+				if n <= 0 {
+					c.badPath(f.Pos, "cable_per_m", []string{m, k, strconv.Itoa(n)}, "want a strand count > 0, got %d", n)
+					continue
+				}
+				money(PriceKey{Item: PriceCable, Medium: m, Construction: k, Count: n}, f.CablePerM[m][k][n])
+			}
+		}
+	}
+	for _, m := range sortedStrings(f.TerminationEach) {
+		money(PriceKey{Item: PriceTermination, Medium: m}, f.TerminationEach[m])
+	}
+	if f.Pos.has("splice_tray") {
+		if c.require(f.SpliceTray.Pos, "", "each", "strands") {
+			money(PriceKey{Item: PriceSpliceTray}, f.SpliceTray.Each)
+			if f.SpliceTray.Strands <= 0 {
+				c.bad(f.SpliceTray.Pos, "", "splice_tray.strands", ErrBadValue, "want splices per tray > 0, got %d", f.SpliceTray.Strands)
+			}
+		}
+	}
+	scalar := func(key, item string, v cents) {
+		if f.Pos.has(key) {
+			money(PriceKey{Item: item}, v)
+		}
+	}
+	scalar("splice_closure_each", PriceSpliceClosure, f.SpliceClosureEach)
+	scalar("innerduct_per_m", PriceInnerduct, f.InnerductPerM)
+	scalar("directional_bore_per_m", PriceBore, f.DirectionalBorePerM)
+	scalar("added_duct_per_m", PriceAddedDuct, f.AddedDuctPerM)
+	ports := func(key, item string, m map[int]cents) {
+		for _, n := range sortedInts(m) {
+			if n <= 0 {
+				c.badPath(f.Pos, key, []string{strconv.Itoa(n)}, "want a port count > 0, got %d", n)
+				continue
+			}
+			money(PriceKey{Item: item, Count: n}, m[n])
+		}
+	}
+	ports("fibre_enclosures", PriceEnclosure, f.FibreEnclosures)
+	ports("adapter_panels", PriceAdapterPanel, f.AdapterPanels)
+	ports("copper_patch_panels", PriceCopperPanel, f.CopperPatchPanels)
+	named := func(key, item string, m map[string]cents, allowed []string) {
+		for _, n := range sortedStrings(m) {
+			if allowed != nil && !contains(allowed, n) {
+				c.badPath(f.Pos, key, []string{n}, "want one of %s, got %q", strings.Join(allowed, ", "), n)
+				continue
+			}
+			money(PriceKey{Item: item, Name: n}, m[n])
+		}
+	}
+	named("structures_each", PriceStructure, f.StructuresEach, structureTypes)
+	named("trench_per_m", PriceTrench, f.TrenchPerM, surfaces)
+	named("restoration_per_m", PriceRestoration, f.RestorationPerM, surfaces)
+	named("transceivers", PriceTransceiver, f.Transceivers, nil)
+	if f.Pos.has("labour") {
+		lb := f.Labour
+		if lb.Pos.has("hourly_rate") {
+			money(PriceKey{Item: PriceLabourHour}, lb.HourlyRate)
+		}
+		rate := func(p0 pos, key, field string, item string, v float64) {
+			if !p0.has(key) {
+				return
+			}
+			if v <= 0 {
+				c.bad(p0, "", field, ErrBadValue, "want a number per hour > 0, got %g", v)
+				return
+			}
+			p.rates[PriceKey{Item: item}] = v
+		}
+		rate(lb.Pos, "splices_per_hour", "labour.splices_per_hour", RateSplice, lb.SplicesPerHour)
+		rate(lb.Pos, "terminations_per_hour", "labour.terminations_per_hour", RateTermination, lb.TerminationsPerHour)
+		rate(lb.TestsPerHour.Pos, "loss", "labour.tests_per_hour.loss", RateLossTest, lb.TestsPerHour.Loss)
+		rate(lb.TestsPerHour.Pos, "otdr", "labour.tests_per_hour.otdr", RateOTDRTest, lb.TestsPerHour.OTDR)
+		for _, t := range sortedStrings(lb.PullMPerHour) {
+			v := lb.PullMPerHour[t]
+			switch {
+			case !contains(pathwayTypes, t):
+				c.badPath(lb.Pos, "pull_m_per_hour", []string{t}, "want one of %s, got %q", strings.Join(pathwayTypes, ", "), t)
+			case v <= 0:
+				c.badPath(lb.Pos, "pull_m_per_hour", []string{t}, "want metres per hour > 0, got %g", v)
+			default:
+				p.rates[PriceKey{Item: RatePull, Name: t}] = v
+			}
+		}
+	}
+	if err := errs.Err(); err != nil {
+		return nil, err
+	}
+	return p, nil
+}
+
+// badPath reports a bad entry of a nested map under key, at the entry's own line.
+func (c checker) badPath(p pos, key string, path []string, format string, args ...any) {
+	line, col := p.at(key)
+	if k, ok := p.Keys[key]; ok && k.Value != nil {
+		n := resolve(k.Value)
+		for _, step := range path {
+			found := false
+			for i := 0; i+1 < len(n.Content); i += 2 {
+				if n.Content[i].Value == step {
+					line, col = n.Content[i].Line, n.Content[i].Column
+					n = resolve(n.Content[i+1])
+					found = true
+					break
+				}
+			}
+			if !found {
+				break
+			}
+		}
+	}
+	c.badAt(line, col, "", key+"."+strings.Join(path, "."), ErrBadValue, format, args...)
+}
+
+func sortedStrings[V any](m map[string]V) []string {
+	keys := make([]string, 0, len(m))
+	for k := range m {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	return keys
+}
+
+// Needs returns the prices the rule engine needs for catalog c: every cable size of every
+// construction, a termination per medium and a transceiver per application.
+func Needs(c *Catalog) []PriceKey {
+	var needs []PriceKey
+	for _, m := range c.Media {
+		needs = append(needs, PriceKey{Item: PriceTermination, Medium: m.ID})
+		for _, k := range m.Constructions {
+			for _, s := range k.Sizes {
+				needs = append(needs, PriceKey{Item: PriceCable, Medium: m.ID, Construction: k.ID, Count: s.Count})
+			}
+		}
+	}
+	for _, a := range c.Applications {
+		needs = append(needs, PriceKey{Item: PriceTransceiver, Name: a.Transceiver})
+	}
+	return needs
+}
