@@ -827,11 +827,84 @@ func (sv *solver) run() {
 	if sv.length || len(sv.proposed) == 0 {
 		return
 	}
-	first, r1 := sv.st, sv.rounds
+	first := sv.st
 	sv.start(true)
-	r2 := sv.improve()
+	sv.rounds += sv.improve()
 	if !sv.st.key().less(first.key()) {
 		sv.st = first
 	}
-	sv.rounds = r1 + r2
+	if len(sv.p.Demands)*len(sv.proposed) <= maxKickWork {
+		sv.kicks()
+	}
+}
+
+// maxKickWork bounds demands × proposed edges for which Solve runs the perturbation phase.
+const maxKickWork = 4096
+
+// restore rebuilds the state from saved choices.
+func (sv *solver) restore(saved []choice) {
+	sv.st = newState(sv)
+	for d, c := range saved {
+		sv.add(d, c)
+	}
+}
+
+// kicks is an iterated local search for small problems: from the local optimum, force a
+// change — open a candidate run of proposed edges for everyone, or forbid an opened edge —
+// descend again from there, and keep the result only if it beats the optimum it started from.
+// It catches trades that no single move finds, such as closing two edges while opening two
+// others. It repeats while a kick succeeds, at most Settings.MaxRounds times.
+func (sv *solver) kicks() {
+	for pass := 0; pass < sv.maxRounds; pass++ {
+		improved := false
+		var all []int32
+		for d := range sv.p.Demands {
+			if sv.invalid[d] == "" {
+				all = append(all, int32(d))
+			}
+		}
+		type kick struct {
+			open  []int32
+			close int32
+		}
+		var ks []kick
+		for _, c := range sv.openCandidates() {
+			ks = append(ks, kick{open: c.edges, close: -1})
+		}
+		for _, e := range sv.proposed {
+			if sv.st.count[e] > 0 {
+				ks = append(ks, kick{close: e})
+			}
+		}
+		for _, k := range ks {
+			before := sv.st.key()
+			saved := slices.Clone(sv.st.ch)
+			for _, e := range k.open {
+				sv.phantom[e] = true
+			}
+			if k.close >= 0 {
+				sv.forbid[k.close] = true
+			}
+			for _, d := range all {
+				sv.remove(int(d))
+				sv.add(int(d), sv.best(int(d)))
+			}
+			for _, e := range k.open {
+				sv.phantom[e] = false
+			}
+			if k.close >= 0 {
+				sv.improve()
+				sv.forbid[k.close] = false
+			}
+			sv.rounds += sv.improve()
+			if sv.st.key().less(before) {
+				improved = true
+				continue
+			}
+			sv.restore(saved)
+		}
+		if !improved {
+			break
+		}
+	}
 }
