@@ -60,7 +60,7 @@ type state struct {
 	users    [][]int32 // per tracked edge (proposed or limited): demands using it, ascending
 	added    []int     // per limited edge: ducts added
 	over     []bool    // per limited edge: cables do not fit
-	total    int64 // plan cost in cents (without construction and ducts for the length objective)
+	total    int64     // plan cost in cents (without construction and ducts for the length objective)
 	totalMM  int64
 	overfull int
 	unrouted int
