@@ -52,50 +52,52 @@ const (
 	nFacts
 )
 
-func num(name, doc string) Fact { return Fact{Name: name, Type: "number", Doc: doc, typ: typeNumber} }
-func str(name, doc string, enum ...string) Fact {
+func numFact(name, doc string) Fact {
+	return Fact{Name: name, Type: "number", Doc: doc, typ: typeNumber}
+}
+func strFact(name, doc string, enum ...string) Fact {
 	return Fact{Name: name, Type: "string", Enum: enum, Doc: doc, typ: typeString}
 }
-func flag(name, doc string) Fact { return Fact{Name: name, Type: "bool", Doc: doc, typ: typeBool} }
+func boolFact(name, doc string) Fact { return Fact{Name: name, Type: "bool", Doc: doc, typ: typeBool} }
 
 // facts is indexed by the f* constants.
 var facts = [nFacts]Fact{
-	fChannelM:                 num("channel_m", "channel length: route, risers and slack, in metres"),
-	fRouteM:                   num("route_m", "length along pathways, laterals included, in metres"),
-	fRiserM:                   num("riser_m", "risers at both ends, in metres"),
-	fSlackM:                   num("slack_m", "slack loops and service coils, in metres"),
-	fRateGbps:                 num("rate_gbps", "required data rate, in Gbit/s"),
-	fFutureRateGbps:           num("future_rate_gbps", "rate the medium must also carry later, in Gbit/s; 0 when none"),
-	fMaxEMI:                   str("max_emi", "highest EMI level on the route", "none", "low", "high"),
-	fEMILevel:                 num("emi_level", "max_emi as a number: none 0, low 1, high 2"),
-	fOutdoor:                  flag("outdoor", "the route leaves a building"),
-	fHasDuct:                  flag("has_duct", "the route uses a duct pathway"),
-	fHasTunnel:                flag("has_tunnel", "the route uses a tunnel pathway"),
-	fHasAerial:                flag("has_aerial", "the route uses an aerial pathway"),
-	fHasBuried:                flag("has_buried", "the route uses a direct-buried pathway"),
-	fHasTray:                  flag("has_tray", "the route uses a cable tray pathway"),
-	fConnectorPairs:           num("connector_pairs", "mated connector pairs in the channel"),
-	fSplices:                  num("splices", "splices in the channel"),
-	fStrands:                  num("strands", "strands the link needs (4-pair cables for copper)"),
-	fKind:                     str("kind", "the medium's kind", KindCopper, KindMultimode, KindSinglemode),
-	fMedium:                   str("medium", "the medium's catalog id, e.g. om4"),
-	fApplication:              str("application", "the IEEE 802.3 PHY, e.g. 10GBASE-SR"),
-	fConstruction:             str("construction", "the construction's catalog id, e.g. osp-loose-tube"),
-	fConstructionOutdoorRated: flag("construction_outdoor_rated", "the construction may run outside buildings"),
-	fConstructionListed:       flag("construction_listed", "the construction carries an NFPA 70 listing (OFNR, OFNP, CMR, CMP)"),
-	fConstructionPlenumRated:  flag("construction_plenum_rated", "the construction is plenum rated"),
-	fReachM:                   num("reach_m", "the application's operating range on the medium, in metres"),
-	fLossDB:                   num("loss_db", "channel loss at the worst operating wavelength, in dB; 0 for copper"),
-	fLimitDB:                  num("limit_db", "the application's maximum channel insertion loss there, in dB; 0 for copper"),
-	fMarginDB:                 num("margin_db", "limit_db - loss_db at the worst operating wavelength, in dB; 0 for copper"),
-	fWavelengthNM:             num("wavelength_nm", "the worst operating wavelength, in nm; 0 for copper"),
-	fLossMarginDB:             num("loss_margin_db", "the margin the plan requires on every fibre loss budget, in dB"),
-	fAllowOutdoorCopper:       flag("allow_outdoor_copper", "the plan permits copper between buildings"),
-	fFutureFits:               flag("future_fits", "some application at the future rate on this medium and construction reaches the channel and closes its loss budget with loss_margin_db; true when there is no future rate"),
-	fFutureApplication:        str("future_application", "the application future_fits found, or the closest miss; \"none\" when the medium has none at the future rate"),
-	fFutureReachM:             num("future_reach_m", "future_application's operating range, in metres; 0 when none"),
-	fFutureMarginDB:           num("future_margin_db", "future_application's loss margin on this channel, in dB; 0 for copper or none"),
-	fFutureNote:               str("future_note", "why the future rate does not fit, in words; \"\" when it fits"),
+	fChannelM:                 numFact("channel_m", "channel length: route, risers and slack, in metres"),
+	fRouteM:                   numFact("route_m", "length along pathways, laterals included, in metres"),
+	fRiserM:                   numFact("riser_m", "risers at both ends, in metres"),
+	fSlackM:                   numFact("slack_m", "slack loops and service coils, in metres"),
+	fRateGbps:                 numFact("rate_gbps", "required data rate, in Gbit/s"),
+	fFutureRateGbps:           numFact("future_rate_gbps", "rate the medium must also carry later, in Gbit/s; 0 when none"),
+	fMaxEMI:                   strFact("max_emi", "highest EMI level on the route", "none", "low", "high"),
+	fEMILevel:                 numFact("emi_level", "max_emi as a number: none 0, low 1, high 2"),
+	fOutdoor:                  boolFact("outdoor", "the route leaves a building"),
+	fHasDuct:                  boolFact("has_duct", "the route uses a duct pathway"),
+	fHasTunnel:                boolFact("has_tunnel", "the route uses a tunnel pathway"),
+	fHasAerial:                boolFact("has_aerial", "the route uses an aerial pathway"),
+	fHasBuried:                boolFact("has_buried", "the route uses a direct-buried pathway"),
+	fHasTray:                  boolFact("has_tray", "the route uses a cable tray pathway"),
+	fConnectorPairs:           numFact("connector_pairs", "mated connector pairs in the channel"),
+	fSplices:                  numFact("splices", "splices in the channel"),
+	fStrands:                  numFact("strands", "strands the link needs (4-pair cables for copper)"),
+	fKind:                     strFact("kind", "the medium's kind", KindCopper, KindMultimode, KindSinglemode),
+	fMedium:                   strFact("medium", "the medium's catalog id, e.g. om4"),
+	fApplication:              strFact("application", "the IEEE 802.3 PHY, e.g. 10GBASE-SR"),
+	fConstruction:             strFact("construction", "the construction's catalog id, e.g. osp-loose-tube"),
+	fConstructionOutdoorRated: boolFact("construction_outdoor_rated", "the construction may run outside buildings"),
+	fConstructionListed:       boolFact("construction_listed", "the construction carries an NFPA 70 listing (OFNR, OFNP, CMR, CMP)"),
+	fConstructionPlenumRated:  boolFact("construction_plenum_rated", "the construction is plenum rated"),
+	fReachM:                   numFact("reach_m", "the application's operating range on the medium, in metres"),
+	fLossDB:                   numFact("loss_db", "channel loss at the worst operating wavelength, in dB; 0 for copper"),
+	fLimitDB:                  numFact("limit_db", "the application's maximum channel insertion loss there, in dB; 0 for copper"),
+	fMarginDB:                 numFact("margin_db", "limit_db - loss_db at the worst operating wavelength, in dB; 0 for copper"),
+	fWavelengthNM:             numFact("wavelength_nm", "the worst operating wavelength, in nm; 0 for copper"),
+	fLossMarginDB:             numFact("loss_margin_db", "the margin the plan requires on every fibre loss budget, in dB"),
+	fAllowOutdoorCopper:       boolFact("allow_outdoor_copper", "the plan permits copper between buildings"),
+	fFutureFits:               boolFact("future_fits", "some application at the future rate on this medium and construction reaches the channel and closes its loss budget with loss_margin_db; true when there is no future rate"),
+	fFutureApplication:        strFact("future_application", "the application future_fits found, or the closest miss; \"none\" when the medium has none at the future rate"),
+	fFutureReachM:             numFact("future_reach_m", "future_application's operating range, in metres; 0 when none"),
+	fFutureMarginDB:           numFact("future_margin_db", "future_application's loss margin on this channel, in dB; 0 for copper or none"),
+	fFutureNote:               strFact("future_note", "why the future rate does not fit, in words; \"\" when it fits"),
 }
 
 var factIndex = func() map[string]int {
