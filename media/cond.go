@@ -25,9 +25,9 @@ import (
 
 // condError is a problem at a byte offset of a condition or reason template.
 type condError struct {
-	Off     int
-	Msg     string
-	Unknown bool // the problem is an unknown fact name
+	Off  int
+	Msg  string
+	Kind error // ErrSyntax, ErrUnknownFact or ErrBadValue (a type or value mismatch)
 }
 
 func (e *condError) Error() string { return e.Msg }
@@ -78,7 +78,7 @@ func lex(src string) ([]token, error) {
 		case r == '"':
 			end := strings.IndexByte(src[i+1:], '"')
 			if end < 0 {
-				return nil, &condError{i, "string not closed: want a closing \"", false}
+				return nil, &condError{i, "string not closed: want a closing \"", ErrSyntax}
 			}
 			toks = append(toks, token{tokString, src[i+1 : i+1+end], i})
 			i += end + 2
@@ -89,15 +89,15 @@ func lex(src string) ([]token, error) {
 			}
 			switch op {
 			case "=":
-				return nil, &condError{i, `"=" is not an operator: use "==" to compare`, false}
+				return nil, &condError{i, `"=" is not an operator: use "==" to compare`, ErrSyntax}
 			case "!":
-				return nil, &condError{i, `"!" is not an operator: use "not"`, false}
+				return nil, &condError{i, `"!" is not an operator: use "not"`, ErrSyntax}
 			}
 			toks = append(toks, token{tokOp, op, i})
 			i += len(op)
 		case r == '&' || r == '|':
 			word := map[rune]string{'&': "and", '|': "or"}[r]
-			return nil, &condError{i, fmt.Sprintf("%q is not an operator: use %q", string(r), word), false}
+			return nil, &condError{i, fmt.Sprintf("%q is not an operator: use %q", string(r), word), ErrSyntax}
 		case r == '-' || r == '.' || (r >= '0' && r <= '9'):
 			j := i + 1
 			for j < len(src) && (src[j] == '.' || (src[j] >= '0' && src[j] <= '9')) {
@@ -105,10 +105,10 @@ func lex(src string) ([]token, error) {
 			}
 			text := src[i:j]
 			if _, err := strconv.ParseFloat(text, 64); err != nil {
-				return nil, &condError{i, fmt.Sprintf("bad number %q", text), false}
+				return nil, &condError{i, fmt.Sprintf("bad number %q", text), ErrSyntax}
 			}
 			if j < len(src) && isIdentRune(rune(src[j])) {
-				return nil, &condError{j, fmt.Sprintf("number %q runs into a name: put a space between them (units are not written in conditions)", text), false}
+				return nil, &condError{j, fmt.Sprintf("number %q runs into a name: put a space between them (units are not written in conditions)", text), ErrSyntax}
 			}
 			toks = append(toks, token{tokNumber, text, i})
 			i = j
@@ -124,7 +124,7 @@ func lex(src string) ([]token, error) {
 			toks = append(toks, token{tokIdent, src[i:j], i})
 			i = j
 		default:
-			return nil, &condError{i, fmt.Sprintf("unexpected character %q", string(r)), false}
+			return nil, &condError{i, fmt.Sprintf("unexpected character %q", string(r)), ErrSyntax}
 		}
 	}
 	return append(toks, token{tokEOF, "", len(src)}), nil
@@ -258,7 +258,7 @@ func parseCondition(src string) (*Condition, error) {
 		return nil, err
 	}
 	if len(toks) == 1 {
-		return nil, &condError{0, "empty condition: want an expression such as channel_m > 100", false}
+		return nil, &condError{0, "empty condition: want an expression such as channel_m > 100", ErrSyntax}
 	}
 	p := &parser{toks: toks}
 	root, off, err := p.or()
@@ -266,10 +266,10 @@ func parseCondition(src string) (*Condition, error) {
 		return nil, err
 	}
 	if t := p.peek(); t.kind != tokEOF {
-		return nil, &condError{t.off, fmt.Sprintf("unexpected %s after a complete condition: want and, or, or the end", t), false}
+		return nil, &condError{t.off, fmt.Sprintf("unexpected %s after a complete condition: want and, or, or the end", t), ErrSyntax}
 	}
 	if root.typ() != typeBool {
-		return nil, &condError{off, fmt.Sprintf("a condition must be true/false, got %s: compare it, e.g. with >", root.typ()), false}
+		return nil, &condError{off, fmt.Sprintf("a condition must be true/false, got %s: compare it, e.g. with >", root.typ()), ErrBadValue}
 	}
 	return &Condition{src: src, root: root, lits: p.lits}, nil
 }
@@ -284,7 +284,7 @@ func (p *parser) isWord(w string) bool {
 
 func needBool(e expr, off int, what string) error {
 	if e.typ() != typeBool {
-		return &condError{off, fmt.Sprintf("%s takes true/false, got %s", what, e.typ()), false}
+		return &condError{off, fmt.Sprintf("%s takes true/false, got %s", what, e.typ()), ErrBadValue}
 	}
 	return nil
 }
@@ -362,10 +362,10 @@ func (p *parser) compare() (expr, int, error) {
 		return nil, 0, err
 	}
 	if x.typ() != y.typ() {
-		return nil, 0, &condError{op.off, fmt.Sprintf("%q compares %s with %s", op.text, x.typ(), y.typ()), false}
+		return nil, 0, &condError{op.off, fmt.Sprintf("%q compares %s with %s", op.text, x.typ(), y.typ()), ErrBadValue}
 	}
 	if op.text != "==" && op.text != "!=" && x.typ() != typeNumber {
-		return nil, 0, &condError{op.off, fmt.Sprintf("%q orders numbers, got %s", op.text, x.typ()), false}
+		return nil, 0, &condError{op.off, fmt.Sprintf("%q orders numbers, got %s", op.text, x.typ()), ErrBadValue}
 	}
 	if x.typ() == typeString {
 		if err := p.checkEnum(x, y, yoff); err != nil {
@@ -395,7 +395,7 @@ func (p *parser) checkEnum(f, lit expr, off int) error {
 				return nil
 			}
 		}
-		return &condError{off, fmt.Sprintf("%s is one of %s, got %q", def.Name, strings.Join(def.Enum, ", "), le.v.str), false}
+		return &condError{off, fmt.Sprintf("%s is one of %s, got %q", def.Name, strings.Join(def.Enum, ", "), le.v.str), ErrBadValue}
 	}
 	p.lits = append(p.lits, strLit{fact: def.Name, value: le.v.str, off: off})
 	return nil
@@ -415,7 +415,7 @@ func (p *parser) operand() (expr, int, error) {
 			return nil, 0, err
 		}
 		if c := p.next(); c.kind != tokRParen {
-			return nil, 0, &condError{c.off, fmt.Sprintf("want \")\" to close an open \"(\", got %s", c), false}
+			return nil, 0, &condError{c.off, fmt.Sprintf("want \")\" to close an open \"(\", got %s", c), ErrSyntax}
 		}
 		return x, t.off, nil
 	case tokIdent:
@@ -423,15 +423,15 @@ func (p *parser) operand() (expr, int, error) {
 		case "true", "false":
 			return litExpr{typeBool, value{b: t.text == "true"}}, t.off, nil
 		case "and", "or", "not":
-			return nil, 0, &condError{t.off, fmt.Sprintf("want a fact, number or string before %q", t.text), false}
+			return nil, 0, &condError{t.off, fmt.Sprintf("want a fact, number or string before %q", t.text), ErrSyntax}
 		}
 		idx, ok := factIndex[t.text]
 		if !ok {
-			return nil, 0, &condError{t.off, unknownFactMsg(t.text), true}
+			return nil, 0, &condError{t.off, unknownFactMsg(t.text), ErrUnknownFact}
 		}
 		return factExpr{idx}, t.off, nil
 	}
-	return nil, 0, &condError{t.off, fmt.Sprintf("want a fact, number or string, got %s", t), false}
+	return nil, 0, &condError{t.off, fmt.Sprintf("want a fact, number or string, got %s", t), ErrSyntax}
 }
 
 func unknownFactMsg(name string) string {
@@ -504,18 +504,18 @@ func parseTemplate(src string) (*template, error) {
 		case c == '{':
 			end := strings.IndexByte(src[i:], '}')
 			if end < 0 {
-				return nil, &condError{i, `placeholder not closed: want "}"`, false}
+				return nil, &condError{i, `placeholder not closed: want "}"`, ErrSyntax}
 			}
 			name := strings.TrimSpace(src[i+1 : i+end])
 			idx, ok := factIndex[name]
 			if !ok {
-				return nil, &condError{i + 1, unknownFactMsg(name), true}
+				return nil, &condError{i + 1, unknownFactMsg(name), ErrUnknownFact}
 			}
 			flush()
 			t.parts = append(t.parts, tmplPart{fact: idx})
 			i += end
 		case c == '}':
-			return nil, &condError{i, `"}" without "{": write "}}" for a brace`, false}
+			return nil, &condError{i, `"}" without "{": write "}}" for a brace`, ErrSyntax}
 		default:
 			text.WriteByte(c)
 		}

@@ -87,7 +87,7 @@ func (e *Engine) checkRule(rule *Rule, errs *ErrorList) {
 	item := "rule " + fmt.Sprintf("%q", rule.ID)
 	for _, id := range rule.Media {
 		if e.cat.Medium(id) == nil {
-			errs.Add(&FileError{File: e.rules.File, Line: rule.Line, Item: item, Field: "media",
+			errs.Add(&FileError{File: e.rules.File, Line: rule.mediaLine, Item: item, Field: "media",
 				Err: fmt.Errorf("%w: no medium %q in %s", ErrUnknownReference, id, e.cat.File)})
 		}
 	}

@@ -39,8 +39,9 @@ type Rule struct {
 	Source string     // the standard or practice it comes from, as written
 	Line   int        // line of the rule in its file
 
-	reason  *template
-	whenPos func(off int) (line, col int)
+	reason    *template
+	whenPos   func(off int) (line, col int)
+	mediaLine int
 }
 
 // appliesTo reports whether r concerns medium m.
@@ -123,6 +124,7 @@ func ParseRules(name string, data []byte) (*Rules, error) {
 		}
 		r := &Rule{ID: ry.ID, Effect: ry.Effect, Reason: ry.Reason, Media: ry.Media, Kinds: ry.Kinds,
 			Source: ry.Source, Line: ry.Pos.Line}
+		r.mediaLine, _ = ry.Pos.at("media")
 		ok := true
 		if !idRE.MatchString(ry.ID) {
 			c.bad(ry.Pos, item, "id", ErrBadValue, "want lower-case letters, digits and '-', got %q", ry.ID)
@@ -175,11 +177,7 @@ func ParseRules(name string, data []byte) (*Rules, error) {
 func (c checker) condFail(at func(int) (int, int), item, field string, err error) {
 	ce := err.(*condError)
 	line, col := at(ce.Off)
-	sentinel := ErrSyntax
-	if ce.Unknown {
-		sentinel = ErrUnknownFact
-	}
-	c.errs.Add(&FileError{File: c.file, Line: line, Col: col, Item: item, Field: field, Err: fmt.Errorf("%w: %s", sentinel, ce.Msg)})
+	c.errs.Add(&FileError{File: c.file, Line: line, Col: col, Item: item, Field: field, Err: fmt.Errorf("%w: %s", ce.Kind, ce.Msg)})
 }
 
 // scalarPos maps a byte offset in the value of scalar node n to its line and column
