@@ -7,8 +7,9 @@ type Options struct {
 	// SnapM is the distance in metres within which a pathway end joins another pathway
 	// and a structure joins a pathway. Zero means DefaultSnapM.
 	SnapM float64
-	// MaxLateralM is the longest lateral in metres from a building to the nearest pathway
-	// vertex, used when no pathway end meets the footprint. Zero means DefaultMaxLateralM.
+	// MaxLateralM is the longest lateral in metres from a building (its footprint, or its
+	// declared entrance) to the nearest point of a pathway, used when no pathway end meets the
+	// footprint. Zero means DefaultMaxLateralM.
 	MaxLateralM float64
 }
 
@@ -56,8 +57,8 @@ type Span struct {
 type Access struct {
 	Building string
 	Junction string
-	// Via is "entrance" (a declared entrance), "footprint" (a pathway end on the footprint)
-	// or "lateral" (nearest pathway vertex within MaxLateralM).
+	// Via is ViaEntrance (a declared entrance), ViaFootprint (a pathway end on the footprint)
+	// or ViaLateral (the nearest point of a pathway within MaxLateralM, made a junction).
 	Via      string
 	LateralM float64        // counted lateral length in metres; 0 unless Via is "lateral" or the entrance needed one
 	Lateral  orb.LineString // the lateral's geometry, building side first; empty when LateralM is 0
