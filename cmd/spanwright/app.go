@@ -4,6 +4,8 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"io/fs"
+	"strings"
 
 	"github.com/urfave/cli/v2"
 
@@ -40,7 +42,9 @@ func exitCode(err error) int {
 	case errors.Is(err, route.ErrInfeasible):
 		return exitInfeasible
 	case errors.As(err, &ue), errors.As(err, &fe), errors.As(err, &gl), errors.As(err, &pe), errors.As(err, &rl),
-		errors.Is(err, errInvalid):
+		errors.Is(err, errInvalid), errors.Is(err, fs.ErrNotExist),
+		strings.HasPrefix(err.Error(), "Required flag"), strings.HasPrefix(err.Error(), "flag provided but not defined"):
+		// urfave/cli reports missing required flags as plain errors; they are usage mistakes.
 		return exitInvalid
 	}
 	return exitInternal

@@ -11,7 +11,8 @@ import (
 
 func main() {
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
-	err := newApp().RunContext(ctx, os.Args)
+	app := newApp()
+	err := app.RunContext(ctx, intersperse(app, os.Args))
 	stop()
 	if err != nil {
 		fmt.Fprintf(os.Stderr, "spanwright: %v\n", err)

@@ -1,0 +1,174 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"flag"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+var update = flag.Bool("update", false, "rewrite golden files in testdata/")
+
+// run runs the command line as main would and returns stdout, the error text and the exit status.
+func run(t *testing.T, args ...string) (string, string, int) {
+	t.Helper()
+	app := newApp()
+	var out, errOut bytes.Buffer
+	app.Writer, app.ErrWriter = &out, &errOut
+	err := app.RunContext(context.Background(), intersperse(app, append([]string{"spanwright"}, args...)))
+	msg := errOut.String()
+	if err != nil {
+		msg += err.Error()
+	}
+	return out.String(), msg, exitCode(err)
+}
+
+// golden compares got with testdata/golden/name, or rewrites it with -update.
+func golden(t *testing.T, name string, got []byte) {
+	t.Helper()
+	path := filepath.Join("testdata", "golden", name)
+	if *update {
+		if err := os.MkdirAll(filepath.Dir(path), 0o755); err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(path, got, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return
+	}
+	want, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatalf("%s: %v (run make golden to create it)", name, err)
+	}
+	if !bytes.Equal(got, want) {
+		gl, wl := strings.Split(string(got), "\n"), strings.Split(string(want), "\n")
+		for i := 0; i < len(gl) || i < len(wl); i++ {
+			var g, w string
+			if i < len(gl) {
+				g = gl[i]
+			}
+			if i < len(wl) {
+				w = wl[i]
+			}
+			if g != w {
+				t.Fatalf("%s:%d differs (make golden rewrites it after an intended change)\ngot:  %s\nwant: %s", path, i+1, g, w)
+			}
+		}
+	}
+}
+
+func TestCheckDemo(t *testing.T) {
+	out, msg, code := run(t, "check", "../../testdata/demo/plan.yaml")
+	if code != exitOK {
+		t.Fatalf("check demo: exit %d: %s", code, msg)
+	}
+	golden(t, "check_demo.txt", []byte(out))
+	for _, want := range []string{"buildings   30 (mc 1, ic 2, served 27)", "hub         ADM: every building can reach it", `pathways "SR-3" and "T-5" cross`} {
+		if !strings.Contains(out, want) {
+			t.Errorf("check demo: output lacks %q", want)
+		}
+	}
+}
+
+func TestDemoPlan(t *testing.T) {
+	dir := t.TempDir()
+	out, msg, code := run(t, "demo", "--out", dir)
+	if code != exitOK && code != exitInfeasible {
+		t.Fatalf("demo: exit %d: %s", code, msg)
+	}
+	golden(t, "demo_stdout.txt", []byte(strings.ReplaceAll(out, dir, "OUT")))
+	files, err := os.ReadDir(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, f := range files {
+		if strings.Contains(f.Name(), ".tmp-") {
+			t.Errorf("demo: temporary file %s left behind", f.Name())
+		}
+		data, err := os.ReadFile(filepath.Join(dir, f.Name()))
+		if err != nil {
+			t.Fatal(err)
+		}
+		golden(t, "demo/"+f.Name(), data)
+	}
+	// Same inputs, same bytes: a second run writes identical files.
+	dir2 := t.TempDir()
+	if _, msg, code2 := run(t, "demo", "--out", dir2); code2 != code {
+		t.Fatalf("demo again: exit %d: %s", code2, msg)
+	}
+	for _, f := range files {
+		a, _ := os.ReadFile(filepath.Join(dir, f.Name()))
+		b, _ := os.ReadFile(filepath.Join(dir2, f.Name()))
+		if !bytes.Equal(a, b) {
+			t.Errorf("demo: %s differs between two runs", f.Name())
+		}
+	}
+}
+
+func TestPlanImperial(t *testing.T) {
+	dir := t.TempDir()
+	out, msg, code := run(t, "plan", "testdata/plans/ok.yaml", "--out", dir, "--units", "imperial")
+	if code != exitOK {
+		t.Fatalf("exit %d: %s", code, msg)
+	}
+	if !strings.Contains(out, " ft of route") {
+		t.Errorf("stdout not in feet: %s", out)
+	}
+	csv, _ := os.ReadFile(filepath.Join(dir, "links.csv"))
+	if !strings.Contains(string(csv), "route_ft") {
+		t.Errorf("links.csv header not in feet: %s", csv)
+	}
+	js, _ := os.ReadFile(filepath.Join(dir, "summary.json"))
+	if !strings.Contains(string(js), `"total_route_m"`) {
+		t.Errorf("summary.json must stay metric: %s", js)
+	}
+}
+
+func TestBadInput(t *testing.T) {
+	cases := []struct {
+		name string
+		args []string
+		code int
+		want []string
+	}{
+		{"no arguments", []string{"check"}, exitInvalid, []string{"name a plan file"}},
+		{"missing out", []string{"plan", "testdata/plans/ok.yaml"}, exitInvalid, []string{`Required flag "out"`}},
+		{"unknown flag", []string{"plan", "testdata/plans/ok.yaml", "--bogus"}, exitInvalid, []string{"bogus"}},
+		{"bad units", []string{"check", "--units", "cubits", "testdata/plans/ok.yaml"}, exitInvalid, []string{`--units: want metric or imperial, got "cubits"`}},
+		{"missing plan", []string{"plan", "testdata/plans/none.yaml", "--out", "x"}, exitInvalid, []string{"none.yaml"}},
+		{"not json", []string{"check", "../../testdata/bad/not_json.geojson"}, exitInvalid, []string{"not_json.geojson"}},
+		{"unknown hub", []string{"plan", "testdata/plans/unknown_hub.yaml", "--out", "x"}, exitInvalid, []string{`hub: invalid plan: unknown building "NOPE"`}},
+		{"unknown link buildings, all reported", []string{"plan", "testdata/plans/unknown_link.yaml", "--out", "x"}, exitInvalid,
+			[]string{`unknown_link.yaml:5: links.to: invalid plan: unknown building "GHOST"`, `unknown_link.yaml:6: links.from: invalid plan: unknown building "PHANTOM"`}},
+		{"unreachable building named", []string{"plan", "testdata/plans/island.yaml", "--out", "x"}, exitInvalid, []string{`cannot reach the hub "HQ"`, "[ISLE]"}},
+		{"check names unreachable", []string{"check", "testdata/plans/island.yaml"}, exitInvalid, []string{"cannot reach the hub HQ: [ISLE]"}},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			out, msg, code := run(t, tc.args...)
+			if code != tc.code {
+				t.Errorf("%s: exit %d, want %d (%s)", tc.name, code, tc.code, msg)
+			}
+			for _, w := range tc.want {
+				if !strings.Contains(out+msg, w) {
+					t.Errorf("%s: output %q lacks %q", tc.name, out+msg, w)
+				}
+			}
+		})
+	}
+	if _, err := os.Stat("x"); err == nil {
+		t.Errorf("a failed plan created its output folder")
+		os.RemoveAll("x")
+	}
+}
+
+func TestIntersperse(t *testing.T) {
+	app := newApp()
+	got := strings.Join(intersperse(app, []string{"spanwright", "plan", "p.yaml", "--out", "d", "--units=imperial"}), " ")
+	if want := "spanwright plan --out d --units=imperial p.yaml"; got != want {
+		t.Errorf("got %q, want %q", got, want)
+	}
+}
