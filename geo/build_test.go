@@ -198,6 +198,38 @@ func TestBuildNoding(t *testing.T) {
 			},
 		},
 		{
+			name: "overshoot within SnapM joins",
+			c: Campus{Pathways: []Pathway{
+				pw("P1", ml(0, 0, 200, 0)),
+				pw("P2", ml(100, -0.4, 100, 100)),
+			}},
+			wantSpans: 3, wantJunctions: 4,
+		},
+		{
+			name: "gap beyond SnapM stays apart",
+			c: Campus{Pathways: []Pathway{
+				pw("P1", ml(0, 0, 200, 0)),
+				pw("P2", ml(100, 0.8, 100, 100)),
+			}},
+			wantSpans: 2, wantJunctions: 4,
+		},
+		{
+			name: "two structures on one vertex keep their names",
+			c: Campus{
+				Pathways: []Pathway{pw("P", ml(0, 0, 50, 0, 100, 0))},
+				Structures: []Structure{
+					{Source: Source{"t.geojson", 1}, ID: "HH-1", Point: at(50, 0.1)},
+					{Source: Source{"t.geojson", 2}, ID: "HH-2", Point: at(50, -0.1)},
+				},
+			},
+			wantSpans: 2, wantJunctions: 3, wantWarnings: 1,
+			check: func(t *testing.T, n *Network) {
+				if _, ok := n.Junction("HH-1"); !ok || !strings.Contains(n.Warnings[0].Message, `"HH-2"`) {
+					t.Errorf("got junctions %v, warnings %v", n.Junctions, n.Warnings)
+				}
+			},
+		},
+		{
 			name: "densely drawn lines meeting",
 			c: Campus{Pathways: []Pathway{
 				pw("D1", ml(0, 0, 49.9, 0, 50, 0, 50.1, 0, 100, 0)),
@@ -467,5 +499,32 @@ func TestBuildDeterministic(t *testing.T) {
 	}
 	if !reflect.DeepEqual(n3, n1) {
 		t.Errorf("shuffled input: networks differ")
+	}
+}
+
+func TestParseThenBuild(t *testing.T) {
+	t.Parallel()
+	c, err := Parse("campus.geojson", []byte(validCampus))
+	if err != nil {
+		t.Fatal(err)
+	}
+	n := build(t, c)
+	checkNetwork(t, n)
+	// Pathway "7" runs from B-1's edge through MH-1 to B-2's entrance.
+	if got := spanIDs(n); got != "7/1:J0001>MH-1 7/2:MH-1>E-B-2" {
+		t.Errorf("spans: got %s", got)
+	}
+	a1, _ := n.AccessOf("B-1")
+	a2, _ := n.AccessOf("B-2")
+	if a1.Via != ViaFootprint || a1.Junction != "J0001" || a2.Via != ViaEntrance || a2.Junction != "E-B-2" {
+		t.Errorf("access: got %+v and %+v", a1, a2)
+	}
+	if j, _ := n.Junction("E-B-2"); j.Kind != JunctionEntrance {
+		t.Errorf("entrance junction: got %+v", j)
+	}
+	s, _ := n.Span("7/1")
+	if s.Type != TypeTunnel || s.Status != StatusProposed || s.SpareDucts != 3 || s.DuctMM != 50 ||
+		s.EMI != EMIHigh || s.Surface != SurfaceAsphalt || s.Group != "north bank" || s.PathwayID != "7" {
+		t.Errorf("span properties: got %+v", s)
 	}
 }
