@@ -1,0 +1,397 @@
+package workbook
+
+import (
+	"bytes"
+	"fmt"
+	"io"
+	"math"
+	"strconv"
+	"strings"
+	"unicode/utf8"
+
+	"github.com/xuri/excelize/v2"
+)
+
+// Column widths, in characters of the default font.
+const (
+	// MinWidth is the narrowest column an automatic width gives.
+	MinWidth = 6
+	// MaxWidth is the widest column an automatic width gives; longer text is cut off on screen
+	// but kept whole in the cell.
+	MaxWidth = 60
+)
+
+// MaxDecimals is the most decimals a Number or Formula cell may show.
+const MaxDecimals = 10
+
+type kind uint8
+
+const (
+	kindBlank kind = iota
+	kindText
+	kindNumber
+	kindBool
+	kindFormula
+)
+
+// Cell is one typed value of a row. The zero Cell is blank.
+type Cell struct {
+	kind     kind
+	text     string  // text, or formula without the leading "="
+	num      float64 // number value
+	decimals int     // decimals shown for numbers and formulas; -1 for general format
+	b        bool
+}
+
+// Blank returns an empty cell.
+func Blank() Cell { return Cell{} }
+
+// Text returns a text cell, stored as a string even when it looks like a number.
+func Text(s string) Cell { return Cell{kind: kindText, text: s} }
+
+// Number returns a number cell shown with the given decimals (0 to MaxDecimals, or -1 for the
+// spreadsheet's general format); the value is stored at full precision. NaN and infinities
+// have no spreadsheet form and are stored as blank cells.
+func Number(x float64, decimals int) Cell {
+	checkDecimals(decimals)
+	if math.IsNaN(x) || math.IsInf(x, 0) {
+		return Cell{}
+	}
+	return Cell{kind: kindNumber, num: x, decimals: decimals}
+}
+
+// Int returns an integer number cell.
+func Int(n int64) Cell { return Cell{kind: kindNumber, num: float64(n), decimals: 0} }
+
+// Cents returns a money cell for an amount in integer cents: it is stored as a number in
+// currency units (cents / 100) and shown with two decimals.
+func Cents(c int64) Cell { return Cell{kind: kindNumber, num: float64(c) / 100, decimals: 2} }
+
+// Bool returns a TRUE/FALSE cell.
+func Bool(b bool) Cell { return Cell{kind: kindBool, b: b} }
+
+// Formula returns a formula cell; expr is written without the leading "=", in the
+// spreadsheet's English syntax with A1 references (see Ref and Sheet.Range), and its result is
+// shown with the given decimals (-1 for general format).
+func Formula(expr string, decimals int) Cell {
+	checkDecimals(decimals)
+	return Cell{kind: kindFormula, text: strings.TrimPrefix(expr, "="), decimals: decimals}
+}
+
+func checkDecimals(d int) {
+	if d < -1 || d > MaxDecimals {
+		panic(fmt.Sprintf("workbook: decimals %d out of range -1..%d", d, MaxDecimals))
+	}
+}
+
+// display is the cell as a spreadsheet shows it, used to size columns.
+func (c Cell) display() string {
+	switch c.kind {
+	case kindText:
+		return c.text
+	case kindNumber:
+		return strconv.FormatFloat(c.num, 'f', c.decimals, 64)
+	case kindBool:
+		if c.b {
+			return "TRUE"
+		}
+		return "FALSE"
+	case kindFormula:
+		return "0000000000" // unknown until calculated: size for a ten-digit result
+	}
+	return ""
+}
+
+// Column describes one column of a sheet.
+type Column struct {
+	Name string // header text
+	// Unit is shown after the name in parentheses, e.g. "length" with unit "m" heads the
+	// column "length (m)"; "" for none.
+	Unit string
+	// Width is the column width in characters; 0 sizes the column to its header and
+	// content, between MinWidth and MaxWidth.
+	Width float64
+}
+
+// Header returns the column's header text: the name, then the unit in parentheses.
+func (c Column) Header() string {
+	if c.Unit == "" {
+		return c.Name
+	}
+	return c.Name + " (" + c.Unit + ")"
+}
+
+// Sheet is one worksheet: a header row made from its columns, then its rows in the order
+// they were appended.
+type Sheet struct {
+	Name    string
+	Columns []Column
+	// Filter, when true, adds filter buttons to the header row.
+	Filter bool
+	rows   [][]Cell
+}
+
+// Append adds a row; a row shorter than the columns ends with blank cells. It panics if the
+// row has more cells than the sheet has columns.
+func (s *Sheet) Append(cells ...Cell) {
+	if len(cells) > len(s.Columns) {
+		panic(fmt.Sprintf("workbook: sheet %q: row of %d cells, sheet has %d columns", s.Name, len(cells), len(s.Columns)))
+	}
+	s.rows = append(s.rows, append([]Cell(nil), cells...))
+}
+
+// Rows returns the number of rows appended, the header not counted.
+func (s *Sheet) Rows() int { return len(s.rows) }
+
+// Range returns an absolute reference to the data cells of column col (0-based) on this
+// sheet, for formulas on any sheet: 'cost sheet'!$F$2:$F$101. With no rows it refers to the
+// first data row alone.
+func (s *Sheet) Range(col int) string {
+	last := len(s.rows) + 1
+	if last < 2 {
+		last = 2
+	}
+	c := ColumnName(col)
+	return quoteSheet(s.Name) + "!$" + c + "$2:$" + c + "$" + strconv.Itoa(last)
+}
+
+func quoteSheet(name string) string {
+	return "'" + strings.ReplaceAll(name, "'", "''") + "'"
+}
+
+// ColumnName returns the spreadsheet letters of column col, 0-based: 0 is "A", 26 is "AA".
+// It panics if col is negative.
+func ColumnName(col int) string {
+	if col < 0 {
+		panic(fmt.Sprintf("workbook: negative column %d", col))
+	}
+	var b []byte
+	for n := col + 1; n > 0; n = (n - 1) / 26 {
+		b = append([]byte{byte('A' + (n-1)%26)}, b...)
+	}
+	return string(b)
+}
+
+// Ref returns the A1 reference of column col (0-based) and spreadsheet row row (1-based; the
+// header is row 1, the first appended row is row 2). It panics on a negative column or a row
+// below 1.
+func Ref(col, row int) string {
+	if row < 1 {
+		panic(fmt.Sprintf("workbook: row %d below 1", row))
+	}
+	return ColumnName(col) + strconv.Itoa(row)
+}
+
+// Workbook is a set of sheets, written in the order they were added.
+type Workbook struct {
+	sheets []*Sheet
+}
+
+// New returns an empty workbook.
+func New() *Workbook { return &Workbook{} }
+
+// AddSheet adds a sheet with the given columns and returns it for rows to be appended.
+func (w *Workbook) AddSheet(name string, cols ...Column) *Sheet {
+	s := &Sheet{Name: name, Columns: cols}
+	w.sheets = append(w.sheets, s)
+	return s
+}
+
+// Sheets returns the sheets in order.
+func (w *Workbook) Sheets() []*Sheet { return w.sheets }
+
+// Bytes renders the workbook as .xlsx bytes. It returns an error for a workbook without
+// sheets, a sheet name the format does not allow (empty, longer than 31 characters, or with
+// one of : \ / ? * [ ]) or a name used twice. Formulas are not checked: a wrong one shows as
+// an error in the spreadsheet program.
+func (w *Workbook) Bytes() ([]byte, error) {
+	var buf bytes.Buffer
+	if _, err := w.WriteTo(&buf); err != nil {
+		return nil, err
+	}
+	return buf.Bytes(), nil
+}
+
+// WriteTo renders the workbook as .xlsx and writes it to out; errors are those of Bytes and
+// of out.
+func (w *Workbook) WriteTo(out io.Writer) (int64, error) {
+	f, err := w.build()
+	if err != nil {
+		return 0, err
+	}
+	defer f.Close()
+	n, err := f.WriteTo(out)
+	if err != nil {
+		return n, fmt.Errorf("workbook: write: %w", err)
+	}
+	return n, nil
+}
+
+func (w *Workbook) build() (*excelize.File, error) {
+	if len(w.sheets) == 0 {
+		return nil, fmt.Errorf("workbook: no sheets")
+	}
+	seen := map[string]bool{}
+	for _, s := range w.sheets {
+		if err := checkSheetName(s.Name); err != nil {
+			return nil, err
+		}
+		key := strings.ToLower(s.Name)
+		if seen[key] {
+			return nil, fmt.Errorf("workbook: sheet name %q used twice", s.Name)
+		}
+		seen[key] = true
+	}
+	f := excelize.NewFile()
+	b := &builder{f: f, styles: map[styleKey]int{}}
+	for i, s := range w.sheets {
+		var err error
+		if i == 0 {
+			err = f.SetSheetName(f.GetSheetName(0), s.Name)
+		} else {
+			_, err = f.NewSheet(s.Name)
+		}
+		if err == nil {
+			err = b.sheet(s)
+		}
+		if err != nil {
+			f.Close()
+			return nil, fmt.Errorf("workbook: sheet %q: %w", s.Name, err)
+		}
+	}
+	f.SetActiveSheet(0)
+	full := true
+	if err := f.SetCalcProps(&excelize.CalcPropsOptions{FullCalcOnLoad: &full}); err != nil {
+		f.Close()
+		return nil, fmt.Errorf("workbook: %w", err)
+	}
+	return f, nil
+}
+
+func checkSheetName(name string) error {
+	if name == "" || utf8.RuneCountInString(name) > 31 || strings.ContainsAny(name, `:\/?*[]`) ||
+		strings.HasPrefix(name, "'") || strings.HasSuffix(name, "'") {
+		return fmt.Errorf("workbook: sheet name %q: want 1 to 31 characters, none of : \\ / ? * [ ] and no leading or trailing '", name)
+	}
+	return nil
+}
+
+type styleKey struct {
+	header   bool
+	decimals int // -1 general, -2 none (text, bool)
+}
+
+type builder struct {
+	f      *excelize.File
+	styles map[styleKey]int
+}
+
+// style returns the style for the key, creating styles in first-use order so the output is
+// the same every time.
+func (b *builder) style(k styleKey) (int, error) {
+	if id, ok := b.styles[k]; ok {
+		return id, nil
+	}
+	st := &excelize.Style{}
+	if k.header {
+		st.Font = &excelize.Font{Bold: true}
+		st.Alignment = &excelize.Alignment{WrapText: false, Vertical: "top"}
+	}
+	if k.decimals >= 0 {
+		fmtCode := "0"
+		if k.decimals > 0 {
+			fmtCode += "." + strings.Repeat("0", k.decimals)
+		}
+		st.CustomNumFmt = &fmtCode
+	}
+	id, err := b.f.NewStyle(st)
+	if err != nil {
+		return 0, err
+	}
+	b.styles[k] = id
+	return id, nil
+}
+
+func (b *builder) sheet(s *Sheet) error {
+	f := b.f
+	widths := make([]int, len(s.Columns))
+	hdr, err := b.style(styleKey{header: true, decimals: -2})
+	if err != nil {
+		return err
+	}
+	for c, col := range s.Columns {
+		ref := Ref(c, 1)
+		if err := f.SetCellStr(s.Name, ref, col.Header()); err != nil {
+			return err
+		}
+		if err := f.SetCellStyle(s.Name, ref, ref, hdr); err != nil {
+			return err
+		}
+		widths[c] = utf8.RuneCountInString(col.Header()) + 2 // room for filter buttons
+	}
+	for r, row := range s.rows {
+		for c, cell := range row {
+			ref := Ref(c, r+2)
+			if err := b.cell(s.Name, ref, cell); err != nil {
+				return fmt.Errorf("cell %s: %w", ref, err)
+			}
+			if n := utf8.RuneCountInString(cell.display()); n > widths[c] {
+				widths[c] = n
+			}
+		}
+	}
+	for c, col := range s.Columns {
+		width := col.Width
+		if width <= 0 {
+			width = float64(min(max(widths[c]+1, MinWidth), MaxWidth))
+		}
+		name := ColumnName(c)
+		if err := f.SetColWidth(s.Name, name, name, width); err != nil {
+			return err
+		}
+	}
+	if len(s.Columns) > 0 {
+		if err := f.SetPanes(s.Name, &excelize.Panes{Freeze: true, YSplit: 1, TopLeftCell: "A2", ActivePane: "bottomLeft",
+			Selection: []excelize.Selection{{SQRef: "A2", ActiveCell: "A2", Pane: "bottomLeft"}}}); err != nil {
+			return err
+		}
+		if s.Filter {
+			last := Ref(len(s.Columns)-1, max(len(s.rows)+1, 1))
+			if err := f.AutoFilter(s.Name, "A1:"+last, nil); err != nil {
+				return err
+			}
+		}
+	}
+	return nil
+}
+
+func (b *builder) cell(sheet, ref string, c Cell) error {
+	f := b.f
+	switch c.kind {
+	case kindBlank:
+		return nil
+	case kindText:
+		return f.SetCellStr(sheet, ref, c.text)
+	case kindBool:
+		return f.SetCellBool(sheet, ref, c.b)
+	case kindNumber, kindFormula:
+		var err error
+		if c.kind == kindNumber {
+			err = f.SetCellFloat(sheet, ref, c.num, -1, 64)
+		} else {
+			err = f.SetCellFormula(sheet, ref, c.text)
+		}
+		if err != nil {
+			return err
+		}
+		if c.decimals < 0 {
+			return nil
+		}
+		id, err := b.style(styleKey{decimals: c.decimals})
+		if err != nil {
+			return err
+		}
+		return f.SetCellStyle(sheet, ref, ref, id)
+	}
+	panic("workbook: unknown cell kind")
+}
