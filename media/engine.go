@@ -366,7 +366,7 @@ func linkName(l Link) string {
 // chosen: one Rejection with Rule "cost" (or the deciding prefer rule) when it had a
 // feasible candidate, otherwise one per application at the rate, reporting the first rule
 // failed by the construction that failed the fewest rules. When no candidate is feasible Feasible is false and Reason says
-// why each medium failed.
+// why each medium failed, listing every one of its Rejections.
 func (e *Engine) Choose(l Link) Choice {
 	if msg := checkLink(l); msg != "" {
 		return Choice{Reason: fmt.Sprintf("%s: bad facts: %s", linkName(l), msg)}
@@ -406,16 +406,12 @@ func (e *Engine) Choose(l Link) Choice {
 		if win != nil && mi == win.mi {
 			continue
 		}
-		rej, failed := e.rejections(l, m, mi, all, ok, win)
+		rej := e.rejections(l, m, mi, all, ok, win)
 		ch.Rejected = append(ch.Rejected, rej...)
 		if win == nil {
-			best := 0
-			for i := range rej {
-				if failed[i] > failed[best] {
-					best = i
-				}
+			for _, r := range rej {
+				summary = append(summary, r.Reason)
 			}
-			summary = append(summary, rej[best].Reason)
 		}
 	}
 	if win == nil {
@@ -449,9 +445,8 @@ func better(a, b *candidate) bool {
 	return a.ki < b.ki
 }
 
-// rejections explains why medium m lost, with the index of the rule each rejection's
-// candidate failed (-1 for one that lost on cost or preference).
-func (e *Engine) rejections(l Link, m *Medium, mi int, all, ok []*candidate, win *candidate) ([]Rejection, []int) {
+// rejections explains why medium m lost.
+func (e *Engine) rejections(l Link, m *Medium, mi int, all, ok []*candidate, win *candidate) []Rejection {
 	for _, c := range ok {
 		if c.mi != mi {
 			continue
@@ -475,10 +470,9 @@ func (e *Engine) rejections(l Link, m *Medium, mi int, all, ok []*candidate, win
 					m.ID, c.a.Name, c.k.ID, FormatCents(c.costCents), e.prices.Currency, win.m.ID)
 			}
 		}
-		return []Rejection{{Medium: m.ID, Rule: rule, Reason: fmt.Sprintf("%s rejected by %s: %s", m.ID, rule, how)}}, []int{-1}
+		return []Rejection{{Medium: m.ID, Rule: rule, Reason: fmt.Sprintf("%s rejected by %s: %s", m.ID, rule, how)}}
 	}
 	var out []Rejection
-	var failed []int
 	for ai := range e.cat.Applications {
 		var pick *candidate
 		for _, c := range all {
@@ -493,14 +487,12 @@ func (e *Engine) rejections(l Link, m *Medium, mi int, all, ok []*candidate, win
 		rule := e.rules.Rules[pick.failed]
 		out = append(out, Rejection{Medium: m.ID, Rule: rule.ID,
 			Reason: fmt.Sprintf("%s rejected by %s: %s", m.ID, rule.ID, pick.why)})
-		failed = append(failed, pick.failed)
 	}
 	if len(out) == 0 {
 		out = append(out, Rejection{Medium: m.ID, Rule: RuleNoApplication,
 			Reason: fmt.Sprintf("%s rejected by %s: no application at %s runs on %s", m.ID, RuleNoApplication, FormatRate(l.RateGbps), m.ID)})
-		failed = append(failed, -1)
 	}
-	return out, failed
+	return out
 }
 
 // preferRule is the i-th prefer rule.

@@ -109,11 +109,11 @@ func TestMaxLengthM(t *testing.T) {
 		pairs, splices         int
 		want                   float64
 	}{
-		{"10GBASE-SR OM4, IEEE allowance as two pairs", 3.5, 2.9, 2, 0, 400}, // IEEE 802.3 Clause 52 (seen): 400 m back from 2.9 dB
+		{"10GBASE-SR OM4, IEEE allowance as two pairs", 3.5, 2.9, 2, 0, 400},          // IEEE 802.3 Clause 52 (seen): 400 m back from 2.9 dB
 		{"10GBASE-SR OM4 with 1 dB margin", 3.5, 1.9, 2, 0, (1.9 - 1.5) / 3.5 * 1000}, // computed: (1.9-1.5)/3.5 km
-		{"100GBASE-ER4 OSP with 1 dB margin", 0.5, 17, 2, 0, 31000},          // computed: (17-1.5)/0.5 km
-		{"connections exceed budget", 3.5, 1.0, 2, 0, 0},                     // computed
-		{"no attenuation", 0, 2, 2, 0, math.Inf(1)},                          // computed
+		{"100GBASE-ER4 OSP with 1 dB margin", 0.5, 17, 2, 0, 31000},                   // computed: (17-1.5)/0.5 km
+		{"connections exceed budget", 3.5, 1.0, 2, 0, 0},                              // computed
+		{"no attenuation", 0, 2, 2, 0, math.Inf(1)},                                   // computed
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {

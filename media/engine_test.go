@@ -1,0 +1,486 @@
+package media
+
+import (
+	"path/filepath"
+	"reflect"
+	"strings"
+	"testing"
+)
+
+func newEngine(t *testing.T, c *Catalog, r *Rules, opt EngineOptions) *Engine {
+	t.Helper()
+	e, err := NewEngine(c, r, nil, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return e
+}
+
+// setReach changes an application's range and loss limit on a medium (0 keeps the loss).
+func setReach(t *testing.T, c *Catalog, app, medium string, rangeM, lossDB float64) {
+	t.Helper()
+	a := c.Application(app)
+	for i := range a.Reach {
+		if a.Reach[i].Medium == medium {
+			a.Reach[i].RangeM = rangeM
+			if lossDB > 0 {
+				a.Reach[i].MaxLossDB = lossDB
+			}
+			return
+		}
+	}
+	t.Fatalf("%s does not run on %s", app, medium)
+}
+
+// ieeeSingleMode sets every single-mode construction to IEEE 802.3's budget assumption:
+// 0.4 dB/km at 1310 nm and 0.3 dB/km at 1550 nm (seen).
+func ieeeSingleMode(c *Catalog) {
+	for _, k := range c.Medium("os2").Constructions {
+		k.Attenuation = []Attenuation{{1310, 0.4}, {1550, 0.3}}
+	}
+}
+
+func rejectionFor(ch Choice, medium string) []Rejection {
+	var out []Rejection
+	for _, r := range ch.Rejected {
+		if r.Medium == medium {
+			out = append(out, r)
+		}
+	}
+	return out
+}
+
+func TestChoose(t *testing.T) {
+	t.Parallel()
+	indoor := func(channelM float64) Link {
+		return Link{ID: "L", RouteM: channelM - 20, RiserM: 10, SlackM: 10, RateGbps: 10, MaxEMI: "none", ConnectorPairs: 2, Strands: 1}
+	}
+	cases := []struct {
+		name         string
+		link         Link
+		opt          EngineOptions
+		catalog      func(*Catalog)
+		rules        string // file under testdata/rules, "" for the default rules
+		wantFeasible bool
+		wantMedium   string
+		wantApp      string
+		wantCons     string
+		wantCents    int64    // computed from prices-demo.yaml
+		wantRejected []string // substrings of Rejected reasons
+		wantReason   []string // substrings of Choice.Reason
+	}{
+		{
+			// ANSI/TIA-568.2: a 100 m channel is the copper limit (seen); common practice picks copper there
+			name: "copper at exactly 100 m", link: indoor(100), opt: EngineOptions{LossMarginDB: 1},
+			wantFeasible: true, wantMedium: "cat6a", wantApp: "10GBASE-T", wantCons: "cmr-riser",
+			wantCents:    9500 + 2*1100 + 2*5500, // 100 m x 0.95 + 2 jacks + 2 x 10GBASE-T
+			wantRejected: []string{"om3 rejected by loss-budget: 10GBASE-SR on ofnr-riser loses 1.85 dB at 850 nm against a limit of 2.6 dB; margin 0.75 dB is below the required 1 dB", "os2 rejected by cost"},
+			wantReason:   []string{"cat6a with 10GBASE-T on cmr-riser is the cheapest of 4 feasible media at 227.00 USD for a 100 m channel, within its 100 m reach"},
+		},
+		{
+			// ANSI/TIA-568.2, 100 m channel (seen)
+			name: "copper past 100 m", link: indoor(100.5), opt: EngineOptions{LossMarginDB: 1},
+			wantFeasible: true, wantMedium: "os2", wantApp: "10GBASE-LR", wantCons: "ofnr-riser",
+			wantCents:    16884 + 2*2*1350 + 2*4500, // 100.5 m x 1.68 + 2 strands x 2 ends + 2 x 10GBASE-LR
+			wantRejected: []string{"cat6a rejected by copper-100m: a copper channel is at most 100 m (90 m permanent link plus 10 m of cords); this channel is 100.5 m"},
+		},
+		{
+			// common practice, no published source: fibre on a high-EMI route
+			name: "fibre on a high-EMI route", link: func() Link { l := indoor(50); l.MaxEMI = "high"; return l }(), opt: EngineOptions{LossMarginDB: 1},
+			wantFeasible: true, wantMedium: "os2", wantApp: "10GBASE-LR", wantCons: "ofnr-riser",
+			wantCents:    8400 + 2*2*1350 + 2*4500,
+			wantRejected: []string{"cat6a rejected by copper-emi: the route crosses a high-EMI segment"},
+		},
+		{
+			// IEEE 802.3 Clause 52: 10GBASE-SR reaches 400 m on OM4 (seen)
+			name: "reach rejects multimode at 612 m",
+			link: Link{ID: "B", RouteM: 580, RiserM: 20, SlackM: 12, RateGbps: 10, MaxEMI: "low", Outdoor: true, ConnectorPairs: 2, Strands: 12},
+			opt:  EngineOptions{LossMarginDB: 1}, wantFeasible: true, wantMedium: "os2", wantApp: "10GBASE-LR", wantCons: "osp-loose-tube",
+			wantCents: 87516 + 2*12*1350 + 2*4500, // 612 m x 1.43
+			wantRejected: []string{
+				"om3 rejected by reach: 10GBASE-SR reaches 300 m, channel is 612 m",
+				"om4 rejected by reach: 10GBASE-SR reaches 400 m, channel is 612 m",
+				"cat6a rejected by copper-100m",
+			},
+			wantReason: []string{"os2 with 10GBASE-LR on osp-loose-tube is the only feasible medium, at 1289.16 USD for a 612 m channel, loss 1.81 dB against 6.2 dB at 1310 nm (margin 4.39 dB)"},
+		},
+		{
+			// NFPA 70 800.90: copper between buildings needs primary protection (seen)
+			name: "no copper between buildings", link: Link{RouteM: 60, RateGbps: 1, Outdoor: true, ConnectorPairs: 2, Strands: 1},
+			wantFeasible: true, wantMedium: "os2", wantApp: "1000BASE-LX", wantCons: "osp-loose-tube",
+			wantCents:    8580 + 2*2*1350 + 2*2200,
+			wantRejected: []string{"cat6a rejected by copper-outdoor: the channel leaves the building"},
+		},
+		{
+			name: "copper between buildings when allowed", link: Link{RouteM: 60, RateGbps: 1, Outdoor: true, ConnectorPairs: 2, Strands: 1},
+			opt: EngineOptions{AllowOutdoorCopper: true}, wantFeasible: true, wantMedium: "cat6a", wantApp: "1000BASE-T", wantCons: "outdoor",
+			wantCents:    9600 + 2*1100 + 2*2500,
+			wantRejected: []string{"os2 rejected by cost: os2 with 1000BASE-LX on osp-loose-tube costs 183.80 USD, 15.80 more than cat6a"},
+		},
+		{
+			// NFPA 70 Article 770: unlisted OSP cable at most 15 m inside the entrance (seen as fragment)
+			name: "long risers and no transition splice", link: Link{RouteM: 300, RiserM: 40, RateGbps: 10, Outdoor: true, ConnectorPairs: 2, Strands: 2},
+			wantFeasible: true, wantMedium: "os2", wantApp: "10GBASE-LR", wantCons: "indoor-outdoor",
+			wantCents: 340*202 + 2*2*1350 + 2*4500,
+		},
+		{
+			name: "long risers with a transition splice", link: Link{RouteM: 300, RiserM: 40, RateGbps: 10, Outdoor: true, ConnectorPairs: 2, Splices: 2, Strands: 2},
+			wantFeasible: true, wantMedium: "os2", wantApp: "10GBASE-LR", wantCons: "osp-loose-tube",
+			wantCents: 340*143 + 2*2*1350 + 2*4500,
+		},
+		{
+			// common practice, no published source: multimode is not used beyond 2 km. The
+			// catalog is changed so that reach does not reject first.
+			name: "multimode beyond 2 km", link: Link{RouteM: 2500, RateGbps: 1, ConnectorPairs: 2, Strands: 2},
+			catalog:      func(c *Catalog) { setReach(t, c, "1000BASE-SX", "om4", 5000, 0) },
+			wantFeasible: true, wantMedium: "os2",
+			wantRejected: []string{"om4 rejected by multimode-2km: multimode is not used beyond 2 km (modal delay distortion); channel is 2500 m", "om3 rejected by reach"},
+		},
+		{
+			name: "multimode under 2 km falls to the loss budget", link: Link{RouteM: 1900, RateGbps: 1, ConnectorPairs: 2, Strands: 2},
+			catalog:      func(c *Catalog) { setReach(t, c, "1000BASE-SX", "om4", 5000, 0) },
+			wantFeasible: true, wantMedium: "os2",
+			wantRejected: []string{"om4 rejected by loss-budget: 1000BASE-SX on ofnr-riser loses 8.15 dB at 850 nm against a limit of 3.56 dB"},
+		},
+		{
+			// IEEE 802.3 Clause 88: 100GBASE-ER4 40 km, 18 dB (seen); with TIA-568.3-D's OSP
+			// maximum of 0.5 dB/km a 30 km channel closes: 15 + 1.5 = 16.5 dB (computed)
+			name: "single-mode serves 30 km at 100G", link: Link{RouteM: 30000, RateGbps: 100, Outdoor: true, ConnectorPairs: 2, Strands: 12},
+			opt: EngineOptions{LossMarginDB: 1}, wantFeasible: true, wantMedium: "os2", wantApp: "100GBASE-ER4", wantCons: "osp-loose-tube",
+			wantCents:  30000*143 + 2*12*1350 + 2*145000,
+			wantReason: []string{"loss 16.5 dB against 18 dB at 1310 nm (margin 1.5 dB)"},
+		},
+		{
+			// IEEE 802.3 Clause 88 (seen): 40 km at IEEE's own 0.4 dB/km: 16 + 1.5 = 17.5 dB (computed)
+			name: "single-mode serves 40 km at 100G with IEEE attenuation", link: Link{RouteM: 40000, RateGbps: 100, Outdoor: true, ConnectorPairs: 2, Strands: 2},
+			catalog: ieeeSingleMode, wantFeasible: true, wantMedium: "os2", wantApp: "100GBASE-ER4",
+			wantReason: []string{"loss 17.5 dB against 18 dB at 1310 nm (margin 0.5 dB)"},
+		},
+		{
+			// computed: 40 km x 0.5 dB/km + 1.5 dB = 21.5 dB > 18 dB with the TIA-568.3-D OSP maximum
+			name: "40 km at TIA maximum attenuation does not close", link: Link{RouteM: 40000, RateGbps: 100, Outdoor: true, ConnectorPairs: 2, Strands: 2},
+			wantFeasible: false,
+			wantReason:   []string{"no medium carries 100G over 40000 m", "os2 rejected by loss-budget: 100GBASE-ER4 on indoor-outdoor loses 21.5 dB at 1310 nm against a limit of 18 dB"},
+		},
+		{
+			// IEEE 802.3 Clause 52: 10GBASE-ER 30 km, 11 dB = 30 x 0.3 + 2.0 (seen)
+			name: "single-mode serves 30 km at 10G with IEEE attenuation", link: Link{RouteM: 30000, RateGbps: 10, Outdoor: true, ConnectorPairs: 2, Strands: 2},
+			catalog: ieeeSingleMode, wantFeasible: true, wantMedium: "os2", wantApp: "10GBASE-ER",
+			wantReason: []string{"loss 10.5 dB against 11 dB at 1550 nm (margin 0.5 dB)"},
+		},
+		{
+			// The link carries 10G now and 40G later: OM3's 40GBASE-SR4 reaches 100 m (IEEE 802.3
+			// Clause 86, seen); OM4's closes no budget with two 0.75 dB pairs (computed)
+			name: "future rate", link: Link{RouteM: 100, RiserM: 10, SlackM: 10, RateGbps: 10, FutureRateGbps: 40, ConnectorPairs: 2, Strands: 12},
+			wantFeasible: true, wantMedium: "os2", wantApp: "10GBASE-LR",
+			wantRejected: []string{
+				"om3 rejected by future-rate: it cannot carry the future rate of 40 Gb/s over 120 m: 40GBASE-SR4 reaches 100 m",
+				"om4 rejected by future-rate: it cannot carry the future rate of 40 Gb/s over 120 m: 40GBASE-SR4 leaves a loss margin of -0.42 dB, below the required 0 dB",
+				"cat6a rejected by copper-100m",
+			},
+		},
+		{
+			name: "future rate copper has no application", link: Link{RouteM: 40, RateGbps: 10, FutureRateGbps: 40, ConnectorPairs: 2, Strands: 1},
+			wantFeasible: true, wantMedium: "om3",
+			wantRejected: []string{"cat6a rejected by future-rate: it cannot carry the future rate of 40 Gb/s over 40 m: no application at 40G runs on cat6a"},
+		},
+		{
+			name: "prefer rule outranks cost", link: indoor(50), rules: "prefer_sm.yaml",
+			wantFeasible: true, wantMedium: "os2", wantApp: "10GBASE-LR",
+			wantRejected: []string{"cat6a rejected by prefer-singlemode: cat6a with 10GBASE-T on cmr-riser is feasible at 179.50 USD, but rule prefer-singlemode prefers os2: single-mode is preferred for growth"},
+			wantReason:   []string{"among those rule prefer-singlemode prefers"},
+		},
+		{
+			name: "nothing reaches 45 km", link: Link{ID: "far", RouteM: 45000, RateGbps: 10, Outdoor: true, ConnectorPairs: 2},
+			wantFeasible: false,
+			wantReason: []string{"link far: no medium carries 10G over 45000 m: cat6a rejected by copper-100m",
+				"om3 rejected by reach", "om4 rejected by reach", "om5 rejected by reach", "os2 rejected by reach: 10GBASE-ER reaches 30000 m, channel is 45000 m"},
+		},
+		{
+			name: "bad link facts", link: Link{ID: "x", RouteM: -5, RateGbps: 10, MaxEMI: "medium", Strands: -1},
+			wantReason: []string{`link x: bad facts: route_m is -5, want >= 0; max_emi is "medium", want none, low or high; strands is -1, want >= 0`},
+		},
+		{
+			name: "rate not in the catalog", link: Link{RouteM: 50, RateGbps: 2.5},
+			wantReason: []string{"link: no application runs at 2.5G; the catalog has 1G, 10G, 25G, 40G, 100G"},
+		},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			t.Parallel()
+			c := DefaultCatalog()
+			if tc.catalog != nil {
+				tc.catalog(c)
+			}
+			var r *Rules
+			if tc.rules != "" {
+				var err error
+				if r, err = LoadRules(filepath.Join("testdata", "rules", tc.rules)); err != nil {
+					t.Fatal(err)
+				}
+			}
+			e := newEngine(t, c, r, tc.opt)
+			ch := e.Choose(tc.link)
+			if ch.Feasible != tc.wantFeasible {
+				t.Fatalf("%s: feasible %v, want %v: %s", tc.name, ch.Feasible, tc.wantFeasible, ch.Reason)
+			}
+			if tc.wantMedium != "" && ch.Medium != tc.wantMedium {
+				t.Errorf("%s: medium %q, want %q: %s", tc.name, ch.Medium, tc.wantMedium, ch.Reason)
+			}
+			if tc.wantApp != "" && ch.Application != tc.wantApp {
+				t.Errorf("%s: application %q, want %q", tc.name, ch.Application, tc.wantApp)
+			}
+			if tc.wantCons != "" && ch.Construction != tc.wantCons {
+				t.Errorf("%s: construction %q, want %q", tc.name, ch.Construction, tc.wantCons)
+			}
+			if tc.wantCents != 0 && ch.CostCents != tc.wantCents {
+				t.Errorf("%s: cost %d cents, want %d", tc.name, ch.CostCents, tc.wantCents)
+			}
+			var all []string
+			for _, r := range ch.Rejected {
+				all = append(all, r.Reason)
+			}
+			joined := strings.Join(all, "\n")
+			for _, w := range tc.wantRejected {
+				if !strings.Contains(joined, w) {
+					t.Errorf("%s: no rejection containing %q in:\n%s", tc.name, w, joined)
+				}
+			}
+			for _, w := range tc.wantReason {
+				if !strings.Contains(ch.Reason, w) {
+					t.Errorf("%s: reason %q lacks %q", tc.name, ch.Reason, w)
+				}
+			}
+			if again := e.Choose(tc.link); !reflect.DeepEqual(again, ch) {
+				t.Errorf("%s: two runs differ", tc.name)
+			}
+		})
+	}
+}
+
+func TestChooseConstructions(t *testing.T) {
+	t.Parallel()
+	e := newEngine(t, nil, nil, EngineOptions{})
+	for _, channelM := range []float64{20, 90, 150, 400, 1500, 8000} {
+		for _, outdoor := range []bool{false, true} {
+			for _, rate := range []float64{1, 10, 25, 40, 100} {
+				l := Link{RouteM: channelM, RateGbps: rate, Outdoor: outdoor, ConnectorPairs: 2, Strands: 12}
+				ch := e.Choose(l)
+				if !ch.Feasible {
+					continue
+				}
+				k := e.cat.Medium(ch.Medium).Construction(ch.Construction)
+				// ANSI/TIA-568.3-D outdoor cable (from memory); NFPA 70 Article 770 listings (seen as fragment)
+				if outdoor && !k.OutdoorRated {
+					t.Errorf("%g m %gG outdoor: chose %s %s, not outdoor rated", channelM, rate, ch.Medium, k.ID)
+				}
+				if !outdoor && k.Listing == "" {
+					t.Errorf("%g m %gG indoor: chose unlisted %s %s", channelM, rate, ch.Medium, k.ID)
+				}
+				for _, loss := range ch.Losses {
+					if loss.Operating && loss.MarginDB < 0 {
+						t.Errorf("%g m %gG: negative margin %+v", channelM, rate, loss)
+					}
+				}
+				if got := len(rejectionFor(ch, ch.Medium)); got != 0 {
+					t.Errorf("%g m %gG: chosen medium also rejected", channelM, rate)
+				}
+			}
+		}
+	}
+}
+
+func TestChooseRejectionPerMedium(t *testing.T) {
+	t.Parallel()
+	e := newEngine(t, nil, nil, EngineOptions{})
+	ch := e.Choose(Link{RouteM: 30, RateGbps: 25, ConnectorPairs: 2, Strands: 2})
+	if !ch.Feasible {
+		t.Fatal(ch.Reason)
+	}
+	got := map[string]string{}
+	for _, r := range ch.Rejected {
+		if _, dup := got[r.Medium]; dup {
+			t.Errorf("medium %s rejected twice", r.Medium)
+		}
+		got[r.Medium] = r.Rule
+	}
+	if got["cat6a"] != RuleNoApplication {
+		t.Errorf("cat6a at 25G: rule %q, want %q", got["cat6a"], RuleNoApplication)
+	}
+	if len(got) != 4 {
+		t.Errorf("got rejections for %v, want the 4 media not chosen", got)
+	}
+}
+
+func TestBetter(t *testing.T) {
+	t.Parallel()
+	a := &candidate{costCents: 100, marginDB: 1, mi: 2}
+	b := &candidate{costCents: 100, marginDB: 2, mi: 3}
+	c := &candidate{costCents: 100, marginDB: 2, mi: 1}
+	d := &candidate{costCents: 99, marginDB: 0, mi: 4}
+	cases := []struct {
+		name string
+		x, y *candidate
+		want bool
+	}{
+		{"cheaper wins", d, a, true},
+		{"tie goes to the larger margin", b, a, true},
+		{"then catalog order", c, b, true},
+		{"not the other way", a, b, false},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			if got := better(tc.x, tc.y); got != tc.want {
+				t.Errorf("%s: got %v, want %v", tc.name, got, tc.want)
+			}
+		})
+	}
+}
+
+func TestMaxChannelM(t *testing.T) {
+	t.Parallel()
+	two := Link{ConnectorPairs: 2}
+	one := Link{ConnectorPairs: 1}
+	out := Link{ConnectorPairs: 2, Outdoor: true}
+	cases := []struct {
+		name         string
+		opt          EngineOptions
+		catalog      func(*Catalog)
+		medium       string
+		rate, future float64
+		link         Link
+		want         float64
+	}{
+		{"copper 100 m", EngineOptions{}, nil, "cat6a", 10, 0, two, 100},                                                                                       // ANSI/TIA-568.2 (seen)
+		{"copper cap holds over a longer range", EngineOptions{}, func(c *Catalog) { setReach(t, c, "10GBASE-T", "cat6a", 150, 0) }, "cat6a", 10, 0, two, 100}, // ANSI/TIA-568.2 (seen)
+		{"copper outdoors", EngineOptions{}, nil, "cat6a", 10, 0, out, 0},                                                                                      // NFPA 70 800.90 (seen)
+		{"copper outdoors allowed", EngineOptions{AllowOutdoorCopper: true}, nil, "cat6a", 10, 0, out, 100},                                                    // ANSI/TIA-568.2 (seen)
+		{"copper high EMI", EngineOptions{}, nil, "cat6a", 10, 0, Link{ConnectorPairs: 2, MaxEMI: "high"}, 0},                                                  // common practice, no published source
+		{"copper at 25G", EngineOptions{}, nil, "cat6a", 25, 0, two, 0},
+		{"om4 10G reach and budget meet", EngineOptions{}, nil, "om4", 10, 0, two, 400},                                                      // IEEE 802.3 Clause 52 (seen): 400 m, 2.9 dB
+		{"om4 10G with 1 dB margin", EngineOptions{LossMarginDB: 1}, nil, "om4", 10, 0, two, 400.0 / 3.5},                                    // computed: (2.9-1-1.5)/3.5 km
+		{"om3 10G reach first", EngineOptions{}, nil, "om3", 10, 0, two, 300},                                                                // IEEE 802.3 Clause 52 (seen)
+		{"om3 1G reach", EngineOptions{}, nil, "om3", 1, 0, two, 550},                                                                        // IEEE 802.3 Clause 38 (seen); the budget alone allows 588.6 m (computed)
+		{"om3 1G budget", EngineOptions{LossMarginDB: 1}, nil, "om3", 1, 0, two, (3.56 - 1 - 1.5) / 3.5 * 1000},                              // computed from IEEE 802.3 Clause 38's 3.56 dB (seen)
+		{"om4 10G now, 40G later", EngineOptions{}, nil, "om4", 10, 40, one, 150},                                                            // IEEE 802.3 Clause 86 (seen): 150 m
+		{"om4 40G never closes with two pairs", EngineOptions{}, nil, "om4", 40, 0, two, 0},                                                  // computed: 1.5 dB limit, 1.5 dB of pairs
+		{"multimode 2 km cap", EngineOptions{}, func(c *Catalog) { setReach(t, c, "1000BASE-SX", "om4", 5000, 20) }, "om4", 1, 0, two, 2000}, // common practice, no published source
+		{"os2 10G outdoors", EngineOptions{}, nil, "os2", 10, 0, out, 19000},                                                                 // computed: 10GBASE-ER (11-1.5)/0.5 km
+		{"os2 10G indoors", EngineOptions{}, nil, "os2", 10, 0, two, 19000},                                                                  // computed: the indoor/outdoor construction is riser listed, so 10GBASE-ER at 0.5 dB/km serves indoors too
+		{"os2 100G outdoors 1 dB", EngineOptions{LossMarginDB: 1}, nil, "os2", 100, 0, out, 31000},                                           // computed: (18-1-1.5)/0.5 km
+		{"os2 splices count", EngineOptions{}, nil, "os2", 100, 0, Link{ConnectorPairs: 2, Splices: 5, Outdoor: true}, 30000},                // computed: 100GBASE-ER4 (18-1.5-1.5)/0.5 km
+		{"unknown medium", EngineOptions{}, nil, "om9", 10, 0, two, 0},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			t.Parallel()
+			c := DefaultCatalog()
+			if tc.catalog != nil {
+				tc.catalog(c)
+			}
+			e := newEngine(t, c, nil, tc.opt)
+			got := e.MaxChannelM(tc.medium, tc.rate, tc.future, tc.link)
+			if got < tc.want-1e-3 || got > tc.want+1e-6 {
+				t.Errorf("%s: got %.6f m, want %.6f m", tc.name, got, tc.want)
+			}
+			if got > 0 {
+				// Choose agrees at the answer and rejects the medium just past it.
+				l := tc.link
+				l.RouteM, l.RateGbps, l.FutureRateGbps = got, tc.rate, tc.future
+				if !e.feasibleAt(l, indexOf(e.Media(), tc.medium), got) {
+					t.Errorf("%s: infeasible at its own maximum %.6f m", tc.name, got)
+				}
+				if e.feasibleAt(l, indexOf(e.Media(), tc.medium), got+0.01) {
+					t.Errorf("%s: still feasible past its maximum %.6f m", tc.name, got)
+				}
+			}
+		})
+	}
+}
+
+func indexOf(list []string, s string) int {
+	for i, x := range list {
+		if x == s {
+			return i
+		}
+	}
+	return -1
+}
+
+func TestCostParts(t *testing.T) {
+	t.Parallel()
+	e := newEngine(t, nil, nil, EngineOptions{})
+	if got := strings.Join(e.Media(), ","); got != "cat6a,om3,om4,om5,os2" {
+		t.Errorf("Media: got %s", got)
+	}
+	// Expected cents are read off prices-demo.yaml (invented prices).
+	perM := []struct {
+		name    string
+		medium  string
+		strands int
+		outdoor bool
+		want    int64
+	}{
+		{"os2 12 outdoor is OSP", "os2", 12, true, 143},
+		{"os2 12 indoor is riser", "os2", 12, false, 168},
+		{"os2 13 takes the 24", "os2", 13, false, 272},
+		{"os2 300 takes two 288s", "os2", 300, true, 2 * 2142},
+		{"cat6a 4 cables", "cat6a", 4, false, 4 * 95},
+		{"cat6a outdoor", "cat6a", 1, true, 160},
+		{"om4 0 strands", "om4", 0, false, 262},
+	}
+	for _, tc := range perM {
+		t.Run(tc.name, func(t *testing.T) {
+			if got := e.CablePerMCents(tc.medium, tc.strands, tc.outdoor); got != tc.want {
+				t.Errorf("%s: got %d, want %d", tc.name, got, tc.want)
+			}
+		})
+	}
+	fixed := []struct {
+		name    string
+		medium  string
+		rate    float64
+		strands int
+		want    int64
+	}{
+		{"os2 10G 12 strands", "os2", 10, 12, 2*12*1350 + 2*4500},
+		{"om4 40G takes 8 strands", "om4", 40, 2, 2*8*1600 + 2*5500},
+		{"cat6a 1G", "cat6a", 1, 1, 2*1100 + 2*2500},
+		{"cat6a 25G none", "cat6a", 25, 1, -1},
+	}
+	for _, tc := range fixed {
+		t.Run(tc.name, func(t *testing.T) {
+			if got := e.FixedCents(tc.medium, tc.rate, tc.strands); got != tc.want {
+				t.Errorf("%s: got %d, want %d", tc.name, got, tc.want)
+			}
+		})
+	}
+	t.Run("unknown medium panics", func(t *testing.T) {
+		defer func() {
+			if r := recover(); r == nil || !strings.Contains(r.(string), "media: unknown medium om9") {
+				t.Errorf("got %v, want a media panic", r)
+			}
+		}()
+		e.CablePerMCents("om9", 12, false)
+	})
+}
+
+func TestNewEngineErrors(t *testing.T) {
+	t.Parallel()
+	data := strings.Replace(string(pricesYAML), "  10GBASE-LR: 45.00\n", "", 1)
+	data = strings.Replace(data, "    cmp-plenum: {1: 1.35}\n", "", 1)
+	p, err := ParsePriceBook("short.yaml", []byte(data))
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, err = NewEngine(nil, nil, p, EngineOptions{LossMarginDB: -1})
+	for _, w := range []string{
+		`media: option loss_margin_db: bad value: want dB >= 0, got -1`,
+		`short.yaml: price "cable cat6a cmp-plenum 1": missing price: add cable_per_m.cat6a.cmp-plenum.1`,
+		`short.yaml: price "transceiver 10GBASE-LR": missing price: add transceivers.10GBASE-LR`,
+	} {
+		if err == nil || !strings.Contains(err.Error(), w) {
+			t.Errorf("got %v, want it to contain %q", err, w)
+		}
+	}
+}
