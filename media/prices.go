@@ -473,9 +473,9 @@ func ParsePriceBook(name string, data []byte) (*PriceBook, error) {
 			v := lb.PullMPerHour[t]
 			switch {
 			case !contains(pathwayTypes, t):
-				c.badPath(lb.Pos, "pull_m_per_hour", []string{t}, "want one of %s, got %q", strings.Join(pathwayTypes, ", "), t)
+				c.badPath(lb.Pos, "labour.pull_m_per_hour", []string{t}, "want one of %s, got %q", strings.Join(pathwayTypes, ", "), t)
 			case v <= 0:
-				c.badPath(lb.Pos, "pull_m_per_hour", []string{t}, "want metres per hour > 0, got %g", v)
+				c.badPath(lb.Pos, "labour.pull_m_per_hour", []string{t}, "want metres per hour > 0, got %g", v)
 			default:
 				p.rates[PriceKey{Item: RatePull, Name: t}] = v
 			}
@@ -487,8 +487,11 @@ func ParsePriceBook(name string, data []byte) (*PriceBook, error) {
 	return p, nil
 }
 
-// badPath reports a bad entry of a nested map under key, at the entry's own line.
+// badPath reports a bad entry of a nested map under key, at the entry's own line. key may
+// be dotted ("labour.pull_m_per_hour"); its last part is looked up in p.
 func (c checker) badPath(p pos, key string, path []string, format string, args ...any) {
+	field := key + "." + strings.Join(path, ".")
+	key = lastKey(key)
 	line, col := p.at(key)
 	if k, ok := p.Keys[key]; ok && k.Value != nil {
 		n := resolve(k.Value)
@@ -507,7 +510,7 @@ func (c checker) badPath(p pos, key string, path []string, format string, args .
 			}
 		}
 	}
-	c.badAt(line, col, "", key+"."+strings.Join(path, "."), ErrBadValue, format, args...)
+	c.badAt(line, col, "", field, ErrBadValue, format, args...)
 }
 
 func sortedStrings[V any](m map[string]V) []string {

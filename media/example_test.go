@@ -1,0 +1,69 @@
+package media_test
+
+import (
+	"fmt"
+	"os"
+
+	"spanwright/media"
+)
+
+// A 10G link between two buildings, 612 m of channel: multimode does not reach, copper may
+// not leave the building, and single-mode on outside-plant cable closes its budget.
+func ExampleEngine_Choose() {
+	e, err := media.NewEngine(media.DefaultCatalog(), media.DefaultRules(), media.DefaultPriceBook(),
+		media.EngineOptions{LossMarginDB: 1})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	ch := e.Choose(media.Link{ID: "hall-to-library", RouteM: 580, RiserM: 20, SlackM: 12, RateGbps: 10,
+		MaxEMI: "low", Outdoor: true, PathwayTypes: []string{"duct"}, ConnectorPairs: 2, Strands: 12})
+	fmt.Println(ch.Medium, ch.Application, ch.Construction, media.FormatCents(ch.CostCents))
+	for _, l := range ch.Losses {
+		if l.Operating {
+			fmt.Printf("%d nm: loss %.2f dB, limit %.2f dB, margin %.2f dB, field limit %.2f dB\n",
+				l.WavelengthNM, l.LossDB, l.LimitDB, l.MarginDB, l.FieldLimitDB)
+		}
+	}
+	for _, r := range ch.Rejected {
+		fmt.Println(r.Reason)
+	}
+	// Output:
+	// os2 10GBASE-LR osp-loose-tube 1289.16
+	// 1310 nm: loss 1.81 dB, limit 6.20 dB, margin 4.39 dB, field limit 1.81 dB
+	// cat6a rejected by copper-100m: a copper channel is at most 100 m (90 m permanent link plus 10 m of cords); this channel is 612 m
+	// om3 rejected by reach: 10GBASE-SR reaches 300 m, channel is 612 m
+	// om4 rejected by reach: 10GBASE-SR reaches 400 m, channel is 612 m
+	// om5 rejected by reach: 10GBASE-SR reaches 400 m, channel is 612 m
+}
+
+// The longest channel each medium can serve at 10G inside a building with two patch panels.
+func ExampleEngine_MaxChannelM() {
+	e, err := media.NewEngine(nil, nil, nil, media.EngineOptions{})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	for _, m := range e.Media() {
+		fmt.Printf("%s %.0f m\n", m, e.MaxChannelM(m, 10, 0, media.Link{ConnectorPairs: 2}))
+	}
+	// Output:
+	// cat6a 100 m
+	// om3 300 m
+	// om4 400 m
+	// om5 400 m
+	// os2 19000 m
+}
+
+func ExampleCatalog_Table() {
+	if err := media.DefaultCatalog().Table(os.Stdout, 40); err != nil {
+		fmt.Println(err)
+	}
+	// Output:
+	// application  rate  wavelength nm  uses      medium  range m  max channel loss dB  jacket
+	// 40GBASE-SR4  40G   850            8 fibres  om3     100      1.90                 aqua
+	// 40GBASE-SR4  40G   850            8 fibres  om4     150      1.50                 aqua
+	// 40GBASE-SR4  40G   850            8 fibres  om5     150      1.50                 lime green
+	// 40GBASE-LR4  40G   1310           2 fibres  os2     10000    6.70                 yellow
+	// connections: mated pair 0.75 dB, splice 0.30 dB; ranges and losses per IEEE 802.3, see catalog.yaml (embedded)
+}

@@ -1,0 +1,192 @@
+package media
+
+import (
+	"errors"
+	"strings"
+	"testing"
+)
+
+func TestDefaultPriceBook(t *testing.T) {
+	t.Parallel()
+	p := DefaultPriceBook()
+	if p.Label != "demo prices, invented, not a quotation" || p.Currency != "USD" || p.PricesDate != "2026-01-15" {
+		t.Errorf("header: got %q %q %q", p.Label, p.Currency, p.PricesDate)
+	}
+	if !strings.Contains(string(pricesYAML[:200]), "INVENTED") {
+		t.Error("the demo book's top comment does not say its prices are invented")
+	}
+	if p.ContingencyBP != 1000 || p.OverheadBP != 1200 || p.TaxBP != 725 || p.SpliceTrayStrands != 12 {
+		t.Errorf("markups: got %d %d %d bp, tray %d", p.ContingencyBP, p.OverheadBP, p.TaxBP, p.SpliceTrayStrands)
+	}
+	money := []struct {
+		key  PriceKey
+		want int64
+	}{
+		{PriceKey{Item: PriceCable, Medium: "os2", Construction: "osp-loose-tube", Count: 12}, 143},
+		{PriceKey{Item: PriceCable, Medium: "cat6a", Construction: "cmr-riser", Count: 1}, 95},
+		{PriceKey{Item: PriceTermination, Medium: "om4"}, 1600},
+		{PriceKey{Item: PriceSpliceTray}, 3800},
+		{PriceKey{Item: PriceSpliceClosure}, 64000},
+		{PriceKey{Item: PriceEnclosure, Count: 48}, 46000},
+		{PriceKey{Item: PriceAdapterPanel, Count: 12}, 6800},
+		{PriceKey{Item: PriceCopperPanel, Count: 24}, 16500},
+		{PriceKey{Item: PriceInnerduct}, 240},
+		{PriceKey{Item: PriceStructure, Name: "handhole"}, 240000},
+		{PriceKey{Item: PriceTrench, Name: "asphalt"}, 9600},
+		{PriceKey{Item: PriceBore}, 11500},
+		{PriceKey{Item: PriceRestoration, Name: "concrete"}, 8800},
+		{PriceKey{Item: PriceAddedDuct}, 750},
+		{PriceKey{Item: PriceLabourHour}, 9200},
+		{PriceKey{Item: PriceTransceiver, Name: "100GBASE-ER4"}, 145000},
+	}
+	for _, tc := range money {
+		t.Run(tc.key.String(), func(t *testing.T) {
+			if got, ok := p.Price(tc.key); !ok || got != tc.want {
+				t.Errorf("%s: got %d (%v), want %d", tc.key, got, ok, tc.want)
+			}
+		})
+	}
+	rates := []struct {
+		key  PriceKey
+		want float64
+	}{
+		{PriceKey{Item: RatePull, Name: "aerial"}, 45},
+		{PriceKey{Item: RateSplice}, 12},
+		{PriceKey{Item: RateTermination}, 8},
+		{PriceKey{Item: RateLossTest}, 20},
+		{PriceKey{Item: RateOTDRTest}, 12},
+	}
+	for _, tc := range rates {
+		if got, ok := p.Rate(tc.key); !ok || got != tc.want {
+			t.Errorf("%s: got %g (%v), want %g", tc.key, got, ok, tc.want)
+		}
+	}
+	if err := p.Check(Needs(DefaultCatalog())); err != nil {
+		t.Errorf("demo book lacks catalog prices: %v", err)
+	}
+	keys := p.Keys()
+	if len(keys) == 0 || keys[0].Item > keys[len(keys)-1].Item {
+		t.Errorf("keys not sorted: %v", keys)
+	}
+}
+
+func TestParseDecimal2(t *testing.T) {
+	t.Parallel()
+	cases := []struct {
+		in   string
+		want int64
+		ok   bool
+	}{
+		{"12.35", 1235, true}, // a float would give 1234.9999…
+		{"0.1", 10, true},
+		{"0.29", 29, true}, // 0.29*100 = 28.999999999999996 in float64
+		{"7", 700, true},
+		{"1_000.5", 100050, true},
+		{"19.99", 1999, true},
+		{"12.345", 0, false},
+		{"-1", 0, false},
+		{"1e3", 0, false},
+		{"", 0, false},
+		{".5", 0, false},
+		{"12.", 0, false},
+		{"99999999999999999", 0, false},
+	}
+	for _, tc := range cases {
+		t.Run(tc.in, func(t *testing.T) {
+			got, ok := parseDecimal2(tc.in)
+			if got != tc.want || ok != tc.ok {
+				t.Errorf("%q: got %d %v, want %d %v", tc.in, got, ok, tc.want, tc.ok)
+			}
+		})
+	}
+}
+
+func TestMoney(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		cents int64
+		want  string
+	}{{123456, "1234.56"}, {5, "0.05"}, {0, "0.00"}, {-1230, "-12.30"}} {
+		if got := FormatCents(tc.cents); got != tc.want {
+			t.Errorf("FormatCents(%d): got %q, want %q", tc.cents, got, tc.want)
+		}
+	}
+	for _, tc := range []struct {
+		cents, bp, want int64
+	}{{10000, 725, 725}, {1999, 1000, 200}, {15, 5000, 8}, {-15, 5000, -8}, {123456, 0, 0}} {
+		if got := ApplyBP(tc.cents, tc.bp); got != tc.want {
+			t.Errorf("ApplyBP(%d, %d): got %d, want %d", tc.cents, tc.bp, got, tc.want)
+		}
+	}
+	for _, tc := range []struct {
+		cents int64
+		qty   float64
+		want  int64
+	}{{143, 612, 87516}, {95, 100.5, 9548}, {168, 100.5, 16884}, {1, 0.5, 1}, {1, 0.49, 0}} {
+		if got := MulCents(tc.cents, tc.qty); got != tc.want {
+			t.Errorf("MulCents(%d, %g): got %d, want %d", tc.cents, tc.qty, got, tc.want)
+		}
+	}
+}
+
+func TestPriceBookBad(t *testing.T) {
+	t.Parallel()
+	good := string(pricesYAML)
+	cases := []struct {
+		name, old, new string
+		sentinel       error
+		want           string
+	}{
+		{"unknown key", "innerduct_per_m: 2.40", "innerduct_per_metre: 2.40", ErrUnknownField, `x.yaml:58:1: field "innerduct_per_metre": unknown field`},
+		{"nested unknown key", "  splices_per_hour: 12", "  splice_per_hour: 12", ErrUnknownField, `field "labour.splice_per_hour": unknown field`},
+		{"three decimals", "innerduct_per_m: 2.40", "innerduct_per_m: 2.405", ErrBadValue, `field "innerduct_per_m": bad value: want an amount >= 0 with at most two decimals, such as 12.35, got "2.405"`},
+		{"negative", "  om4: 16.00", "  om4: -16.00", ErrBadValue, `field "termination_each.om4": bad value`},
+		{"text amount", "added_duct_per_m: 7.50", "added_duct_per_m: cheap", ErrBadValue, `field "added_duct_per_m": bad value`},
+		{"currency", "currency: USD", "currency: dollars", ErrBadValue, `field "currency": bad value: want an ISO 4217 code such as USD, got "dollars"`},
+		{"date", "prices_date: 2026-01-15", "prices_date: 2026-13-45", ErrBadValue, `field "prices_date": bad value: want a date YYYY-MM-DD`},
+		{"no label", "label: demo prices, invented, not a quotation\n", "", ErrMissingField, `field "label": missing field`},
+		{"surface", "  turf: 48.00", "  gravel: 48.00", ErrBadValue, `field "trench_per_m.gravel": bad value: want one of turf, asphalt, concrete, got "gravel"`},
+		{"structure", "  pull-box: 850.00", "  vault: 850.00", ErrBadValue, `field "structures_each.vault": bad value: want one of pull-box, handhole, maintenance-hole`},
+		{"pathway", "{duct: 60,", "{conduit: 60,", ErrBadValue, `field "labour.pull_m_per_hour.conduit": bad value: want one of duct, tunnel, aerial, buried, tray`},
+		{"zero rate", "  splices_per_hour: 12", "  splices_per_hour: 0", ErrBadValue, `field "labour.splices_per_hour": bad value: want a number per hour > 0`},
+		{"tax over 100", "  tax: 7.25", "  tax: 107.25", ErrBadValue, `field "markups_percent.tax": bad value: want a percentage from 0 to 100`},
+		{"strand count", "cmr-riser: {1: 0.95}", "cmr-riser: {0: 0.95}", ErrBadValue, `field "cable_per_m.cat6a.cmr-riser.0": bad value: want a strand count > 0`},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			data := strings.Replace(good, tc.old, tc.new, 1)
+			if data == good {
+				t.Fatalf("%s: replacement did not apply", tc.name)
+			}
+			_, err := ParsePriceBook("x.yaml", []byte(data))
+			if err == nil || !strings.Contains(err.Error(), tc.want) || !errors.Is(err, tc.sentinel) {
+				t.Errorf("%s: got %v, want %v containing %q", tc.name, err, tc.sentinel, tc.want)
+			}
+		})
+	}
+}
+
+func TestPriceBookCheck(t *testing.T) {
+	t.Parallel()
+	p := DefaultPriceBook()
+	needs := []PriceKey{
+		{Item: PriceTransceiver, Name: "800GBASE-DR8"},
+		{Item: PriceCable, Medium: "om4", Construction: "ofnr-riser", Count: 36},
+		{Item: PriceTransceiver, Name: "10GBASE-SR"},
+		{Item: RatePull, Name: "tunnel"},
+		{Item: RatePull, Name: "submarine"},
+		{Item: PriceTransceiver, Name: "800GBASE-DR8"},
+	}
+	err := p.Check(needs)
+	if err == nil || !errors.Is(err, ErrMissingPrice) {
+		t.Fatalf("got %v, want missing prices", err)
+	}
+	want := []string{
+		`prices-demo.yaml (embedded): price "cable om4 ofnr-riser 36": missing price: add cable_per_m.om4.ofnr-riser.36`,
+		`prices-demo.yaml (embedded): price "pull-rate submarine": missing price: add labour.pull_m_per_hour.submarine`,
+		`prices-demo.yaml (embedded): price "transceiver 800GBASE-DR8": missing price: add transceivers.800GBASE-DR8`,
+	}
+	if got := err.Error(); got != strings.Join(want, "\n") {
+		t.Errorf("got:\n%s\nwant:\n%s", got, strings.Join(want, "\n"))
+	}
+}
