@@ -167,11 +167,17 @@ type candidate struct {
 	strands    int
 }
 
-// strandsFor is what a link needs of application a: the link's strands but at least the
-// application's (for copper: 4-pair cables).
-func strandsFor(l Link, a *Application) int {
-	if l.Strands > a.Strands {
-		return l.Strands
+// strandsFor is what a link needs of application a on medium m: the link's strands but at
+// least the application's. On copper the count is of 4-pair cables, one per duplex channel
+// the strands would carry, i.e. half the strands rounded up (common practice, no published
+// source: a backbone channel is one fibre pair or one 4-pair cable).
+func strandsFor(l Link, a *Application, m *Medium) int {
+	n := l.Strands
+	if m.Kind == KindCopper {
+		n = (n + 1) / 2
+	}
+	if n > a.Strands {
+		return n
 	}
 	return a.Strands
 }
@@ -182,7 +188,7 @@ func (e *Engine) evaluate(l Link, mi, ai, ki int) *candidate {
 	k := m.Constructions[ki]
 	r, _ := a.On(m.ID)
 	channel := l.ChannelM()
-	c := &candidate{m: m, a: a, k: k, r: r, mi: mi, ai: ai, ki: ki, failed: -1, strands: strandsFor(l, a)}
+	c := &candidate{m: m, a: a, k: k, r: r, mi: mi, ai: ai, ki: ki, failed: -1, strands: strandsFor(l, a, m)}
 	c.losses = Losses(k, a, r, channel, l.ConnectorPairs, l.Splices, e.design, e.field)
 	f := &c.f
 	f[fChannelM].num = channel
@@ -662,13 +668,17 @@ func (e *Engine) mustMedium(id string) *Medium {
 	return m
 }
 
-// CablePerMCents is the price in cents per metre of cable for strands strands (4-pair
-// cables for copper) of medium: the cheapest outdoor-rated construction when outdoor, else
+// CablePerMCents is the price in cents per metre of cable for strands strands (counted as
+// in Link.Strands: on copper, one 4-pair cable per two strands) of medium: the cheapest outdoor-rated construction when outdoor, else
 // the cheapest listed (riser or plenum) one, with as many cables as the largest size needs.
 // It is a lower bound of what Choose prices, for routing. It returns -1 when the medium has
 // no such construction, and panics on a medium not in the catalog.
 func (e *Engine) CablePerMCents(medium string, strands int, outdoor bool) int64 {
-	k, c := e.constructionFor(e.mustMedium(medium), strands, outdoor)
+	m := e.mustMedium(medium)
+	if m.Kind == KindCopper {
+		strands = (strands + 1) / 2
+	}
+	k, c := e.constructionFor(m, strands, outdoor)
 	if k == nil {
 		return -1
 	}
@@ -690,7 +700,7 @@ func (e *Engine) FixedCents(medium string, rateGbps float64, strands int) int64 
 			continue
 		}
 		trx, _ := e.prices.Price(PriceKey{Item: PriceTransceiver, Name: a.Transceiver})
-		c := 2*int64(strandsFor(Link{Strands: strands}, a))*term + 2*trx
+		c := 2*int64(strandsFor(Link{Strands: strands}, a, m))*term + 2*trx
 		if best < 0 || c < best {
 			best = c
 		}

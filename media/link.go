@@ -20,7 +20,7 @@ type Link struct {
 	ConnectorPairs int
 	Splices        int
 
-	Strands int // strands (or, for copper, cables) required before growth
+	Strands int // fibre strands required; copper carries them as one 4-pair cable per two strands
 }
 
 // ChannelM is the full channel length in metres: route, risers and slack.
