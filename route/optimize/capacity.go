@@ -74,14 +74,20 @@ type capacity struct {
 // in that order: the ducts added are never removed, so it is the most any prefix of the pull
 // needs. ok is false when the cables cannot all be pulled (a cable wider than a duct allows,
 // or full ducts on an edge where none can be added).
-func (c *capacity) needed(e int, ods []float64) (added int, ok bool) {
+// With the default rule, pack (if non-nil) receives the packing.
+func (c *capacity) needed(e int, ods []float64, pack *ductPack) (added int, ok bool) {
 	ed := &c.edges[e]
 	maxAdd := 0
 	if ed.AddDuctPerMCents > 0 {
 		maxAdd = len(ods)
 	}
 	if c.fits == nil {
-		p := ductPack{areaMM2: circleMM2(ed.DuctIDMM)}
+		var local ductPack
+		p := &local
+		if pack != nil {
+			p = pack
+		}
+		p.areaMM2, p.count, p.used = circleMM2(ed.DuctIDMM), p.count[:0], p.used[:0]
 		for _, od := range ods {
 			if od <= 0 {
 				continue

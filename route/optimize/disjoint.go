@@ -71,11 +71,32 @@ type pairResult struct {
 }
 
 // disjointPair finds the least-weight pair of edge- and node-disjoint paths from s to t under w.
-func disjointPair(ps *pairScratch, s, t int, w func(e int32) (int64, bool)) pairResult {
+// h, when non-nil, is a consistent lower bound of the weight to t: the searches then run on the
+// reduced weights w(u,v) − h(u) + h(v), which changes every s–t path by the same constant and
+// so leaves the optimal pair unchanged, while steering both searches towards t (A*).
+func disjointPair(ps *pairScratch, s, t int, w func(e int32) (int64, bool), h heuristic[int64]) pairResult {
 	net := ps.net
 	var res pairResult
+	if h == nil {
+		h = func(int32) (int64, bool) { return 0, true }
+	}
+	if _, ok := h(int32(s)); !ok {
+		return res
+	}
+	rw := func(e, from, to int32) (int64, bool) {
+		we, ok := w(e)
+		if !ok {
+			return 0, false
+		}
+		hf, _ := h(from)
+		ht, okt := h(to)
+		if !okt {
+			return 0, false
+		}
+		return max(0, we-hf+ht), true
+	}
 	// Step 2: shortest path P1 on the split graph; any single path is node-simple.
-	if !ps.dijkstra(int32(s), int32(t), w) {
+	if !ps.dijkstra(int32(s), int32(t), rw) {
 		return res
 	}
 	// Suurballe potentials: distances of step 2, capped at d(t) for states settled later or
@@ -94,7 +115,7 @@ func disjointPair(ps *pairScratch, s, t int, w func(e int32) (int64, bool)) pair
 	ps.markP1(s, p1)
 
 	// Step 3: residual search on reduced weights.
-	if !ps.residual(int32(s), int32(t), w, dT) {
+	if !ps.residual(int32(s), int32(t), rw, dT) {
 		res.cut = ps.cutOnP1(s, p1)
 		ps.unmarkP1(p1)
 		return res
@@ -187,7 +208,7 @@ func (ps *pairScratch) begin() uint32 {
 
 // dijkstra finds the shortest path from out(s) to in(t) on the split graph without residual
 // arcs.
-func (ps *pairScratch) dijkstra(s, t int32, w func(e int32) (int64, bool)) bool {
+func (ps *pairScratch) dijkstra(s, t int32, w func(e, from, to int32) (int64, bool)) bool {
 	st := ps.begin()
 	ps.touched = ps.touched[:0]
 	net := ps.net
@@ -213,7 +234,7 @@ func (ps *pairScratch) dijkstra(s, t int32, w func(e int32) (int64, bool)) bool 
 			if a.to == s || a.to == v {
 				continue
 			}
-			we, ok := w(a.edge)
+			we, ok := w(a.edge, v, a.to)
 			if !ok {
 				continue
 			}
@@ -275,7 +296,7 @@ func (ps *pairScratch) unmarkP1(p1 []Hop) {
 
 // residual searches for P2 from out(s) to in(t) in the residual network of P1, on reduced
 // weights.
-func (ps *pairScratch) residual(s, t int32, w func(e int32) (int64, bool), dT int64) bool {
+func (ps *pairScratch) residual(s, t int32, w func(e, from, to int32) (int64, bool), dT int64) bool {
 	st := ps.begin()
 	net := ps.net
 	src, goal := outState(s), inState(t)
@@ -304,7 +325,7 @@ func (ps *pairScratch) residual(s, t int32, w func(e int32) (int64, bool), dT in
 			if onP1(v) {
 				// Split arc saturated: only the reversed P1 edge into v leads on.
 				e := ps.p1In[v]
-				we, _ := w(e)
+				we, _ := w(e, ps.p1Prev[v], v)
 				u := outState(ps.p1Prev[v])
 				ps.relax(x, u, e, dx+red(x, u, -we), st)
 			} else {
@@ -319,7 +340,7 @@ func (ps *pairScratch) residual(s, t int32, w func(e int32) (int64, bool), dT in
 			if a.to == s || a.to == v || ps.p1Dir[a.edge] != 0 {
 				continue
 			}
-			we, ok := w(a.edge)
+			we, ok := w(a.edge, v, a.to)
 			if !ok {
 				continue
 			}

@@ -75,7 +75,7 @@ func (sv *solver) solution() *Solution {
 			fill.UsedAreaMM2, fill.AllowedAreaMM2 = allowedArea(ed.DuctIDMM, ods)
 			prev := 0
 			for i := range ods {
-				k, ok := sv.cap.needed(e, ods[:i+1])
+				k, ok := sv.cap.needed(e, ods[:i+1], nil)
 				if !ok {
 					k = prev
 				}
@@ -155,7 +155,7 @@ func (sv *solver) singlePoint(d, o int) (*SinglePoint, string) {
 	s, t := sv.from[d], sv.to[d]
 	base := sv.profBase[sv.optProf[d][o]]
 	w := func(e int32) (int64, bool) { return base[e], base[e] >= 0 }
-	res := disjointPair(sv.ps, s, t, w)
+	res := disjointPair(sv.ps, s, t, w, nil)
 	if !res.ok {
 		if !res.found1 {
 			return nil, "no route for a diverse pair"

@@ -30,55 +30,63 @@ import (
 // this too is a heuristic.
 
 // maxPairTries bounds the Suurballe runs of one group-aware pair search.
-const maxPairTries = 12
+const maxPairTries = 6
 
 // pair returns demand d's best diverse pair for option o against the current state, legs
-// oriented free end → anchor, with their marginal weight.
-func (sv *solver) pair(d, o int) ([2][]Hop, int64, bool) {
+// oriented free end → anchor, with their marginal weight. With mix false only the cost
+// weights are tried; fits reports then whether a pair was found but exceeds the reach (so
+// that a call with mix true may help).
+func (sv *solver) pair(d, o int, mix bool) (legs [2][]Hop, weight int64, ok, tooLong bool) {
 	s, t := sv.from[d], sv.to[d]
 	limit := sv.reach[d][o]
+	prof := sv.optProf[d][o]
 	w := sv.weightFor(d, o)
-	var best [2][]Hop
-	bestW := int64(math.MaxInt64)
-	found := false
-	try := func(wt func(e int32) (int64, bool)) (ratio float64) {
-		legs, ok := sv.groupPair(s, t, wt)
-		if !ok {
+	hc := treeH(sv.costTree(t, prof))
+	weight = math.MaxInt64
+	try := func(wt func(e int32) (int64, bool), h heuristic[int64]) (ratio float64) {
+		cand, found := sv.groupPair(s, t, wt, h)
+		if !found {
 			return 0
 		}
-		c0, l0 := pathEval(sv.net, legs[0], w)
-		c1, l1 := pathEval(sv.net, legs[1], w)
+		c0, l0 := pathEval(sv.net, cand[0], w)
+		c1, l1 := pathEval(sv.net, cand[1], w)
 		if l0+l1 > 0 {
 			ratio = float64(c0+c1) / float64(l0+l1)
 		}
-		if l0 <= limit && l1 <= limit && c0+c1 < bestW {
-			best, bestW, found = legs, c0+c1, true
+		if l0 > limit || l1 > limit {
+			tooLong = true
+		} else if c0+c1 < weight {
+			legs, weight, ok = cand, c0+c1, true
 		}
 		return ratio
 	}
-	ratio := try(w)
-	if found || limit >= unlimitedMM {
-		return best, bestW, found
+	ratio := try(w, hc)
+	if ok || !mix || limit >= unlimitedMM {
+		return legs, weight, ok, tooLong && !ok
 	}
 	if ratio <= 0 {
 		ratio = 1
 	}
-	for _, f := range []float64{0.25, 1, 4, 16, 64} {
+	// Rising weight on length, stopping at the first pair within reach (the cheapest of
+	// those the scan meets, as cost rises with λ).
+	for _, f := range []float64{1, 8} {
 		lambda := ratio * f
 		try(func(e int32) (int64, bool) {
-			c, ok := w(e)
-			return c + int64(math.Round(lambda*float64(sv.net.lenMM[e]))), ok
-		})
+			c, okw := w(e)
+			return c + int64(math.Round(lambda*float64(sv.net.lenMM[e]))), okw
+		}, hc)
+		if ok {
+			return legs, weight, ok, false
+		}
 	}
-	if !found {
-		try(func(e int32) (int64, bool) {
-			if _, ok := w(e); !ok {
-				return 0, false
-			}
-			return sv.net.lenMM[e], true
-		})
-	}
-	return best, bestW, found
+	lt := sv.lenTree(t, sv.profiles[prof].exclude)
+	try(func(e int32) (int64, bool) {
+		if _, okw := w(e); !okw {
+			return 0, false
+		}
+		return sv.net.lenMM[e], true
+	}, treeH(lt))
+	return legs, weight, ok, tooLong && !ok
 }
 
 // groupsOf returns the sorted distinct groups (> 0) of a leg.
@@ -122,7 +130,8 @@ func (sv *solver) block(es []int32) {
 }
 
 // groupPair returns the cheapest pair under wt that shares no edge, interior node or group.
-func (sv *solver) groupPair(s, t int, wt func(e int32) (int64, bool)) ([2][]Hop, bool) {
+// h is a consistent lower bound of wt to t, or nil.
+func (sv *solver) groupPair(s, t int, wt func(e int32) (int64, bool), h heuristic[int64]) ([2][]Hop, bool) {
 	blocked := func(e int32) (int64, bool) {
 		if sv.blk[e] == sv.blkSt {
 			return 0, false
@@ -130,7 +139,7 @@ func (sv *solver) groupPair(s, t int, wt func(e int32) (int64, bool)) ([2][]Hop,
 		return wt(e)
 	}
 	sv.block(nil)
-	res := disjointPair(sv.ps, s, t, blocked)
+	res := disjointPair(sv.ps, s, t, blocked, h)
 	if !res.ok {
 		return [2][]Hop{}, false
 	}
@@ -147,11 +156,11 @@ func (sv *solver) groupPair(s, t int, wt func(e int32) (int64, bool)) ([2][]Hop,
 		}
 	}
 	// Two-step candidates.
-	for _, leg := range [][]Hop{res.legs[0], res.legs[1], sv.single(s, t, blocked)} {
+	for _, leg := range [][]Hop{res.legs[0], res.legs[1], sv.single(s, t, blocked, h)} {
 		if leg == nil {
 			continue
 		}
-		if q := sv.avoiding(s, t, leg, blocked); q != nil {
+		if q := sv.avoiding(s, t, leg, blocked, h); q != nil {
 			consider([2][]Hop{leg, q})
 		}
 	}
@@ -177,7 +186,7 @@ func (sv *solver) groupPair(s, t int, wt func(e int32) (int64, bool)) ([2][]Hop,
 				}
 			}
 			sv.block(bl)
-			r := disjointPair(sv.ps, s, t, blocked)
+			r := disjointPair(sv.ps, s, t, blocked, h)
 			tries++
 			if !r.ok {
 				continue
@@ -194,8 +203,8 @@ func (sv *solver) groupPair(s, t int, wt func(e int32) (int64, bool)) ([2][]Hop,
 }
 
 // single returns the cheapest path from s to t under w, or nil.
-func (sv *solver) single(s, t int, w func(e int32) (int64, bool)) []Hop {
-	if !sv.srch.run(s, t, w, nil) {
+func (sv *solver) single(s, t int, w func(e int32) (int64, bool), h heuristic[int64]) []Hop {
+	if !sv.srch.run(s, t, w, h) {
 		return nil
 	}
 	return sv.srch.pathTo(t)
@@ -203,7 +212,7 @@ func (sv *solver) single(s, t int, w func(e int32) (int64, bool)) []Hop {
 
 // avoiding returns the cheapest path from s to t under w that shares no edge, interior node
 // or group with leg, or nil.
-func (sv *solver) avoiding(s, t int, leg []Hop, w func(e int32) (int64, bool)) []Hop {
+func (sv *solver) avoiding(s, t int, leg []Hop, w func(e int32) (int64, bool), h heuristic[int64]) []Hop {
 	avoidE := map[int32]bool{}
 	avoidG := map[int]bool{}
 	avoidN := map[int]bool{}
@@ -224,5 +233,5 @@ func (sv *solver) avoiding(s, t int, leg []Hop, w func(e int32) (int64, bool)) [
 			return 0, false
 		}
 		return w(e)
-	})
+	}, h)
 }

@@ -57,7 +57,9 @@ func pathEval(net *Network, hops []Hop, w func(e int32) (int64, bool)) (cost, le
 
 // larac returns a path from s to t of length at most limitMM, given pc (the cheapest path,
 // too long) and pd (the shortest path, within the limit). It follows Jüttner et al. 2001.
-func larac(net *Network, sc *rcspScratch, s, t int, limitMM int64, w func(e int32) (int64, bool), pc, pd []Hop) []Hop {
+// hCost and hLen are consistent lower bounds of cost and length to t (-1: cannot reach t);
+// hCost + λ·hLen is then a consistent heuristic for cost + λ·length, so each step is an A*.
+func larac(net *Network, sc *rcspScratch, s, t int, limitMM int64, w func(e int32) (int64, bool), hCost, hLen []int64, pc, pd []Hop) []Hop {
 	cc, dc := pathEval(net, pc, w)
 	cd, dd := pathEval(net, pd, w)
 	for iter := 0; iter < 40 && dc > dd && cd > cc; iter++ {
@@ -66,7 +68,10 @@ func larac(net *Network, sc *rcspScratch, s, t int, limitMM int64, w func(e int3
 			c, ok := w(e)
 			return float64(c) + lambda*float64(net.lenMM[e]), ok
 		}
-		if !sc.fs.run(s, t, lw, nil) {
+		h := func(v int32) (float64, bool) {
+			return float64(hCost[v]) + lambda*float64(hLen[v]), hCost[v] >= 0 && hLen[v] >= 0
+		}
+		if !sc.fs.run(s, t, lw, h) {
 			break
 		}
 		r := sc.fs.pathTo(t)

@@ -82,11 +82,19 @@ func newSearch[W weight](net *Network) *search[W] {
 // reached reports whether the last run labelled v.
 func (s *search[W]) reached(v int) bool { return s.seen[v] == s.stamp }
 
+// heuristic returns a lower bound of the weight from node v to the goal, consistent
+// (h(u) <= w(u,v) + h(v)), and false for a node that cannot reach the goal.
+type heuristic[W weight] func(v int32) (W, bool)
+
+// treeH is the heuristic of a lower-bound tree's distances.
+func treeH(t *tree) heuristic[int64] {
+	return func(v int32) (int64, bool) { d := t.dist[v]; return d, d >= 0 }
+}
+
 // run is Dijkstra's algorithm from root over edges with w(e) → (weight >= 0, usable), or A*
-// when h is non-nil (h must be a consistent lower bound of the remaining weight to goal). It
-// stops when goal is settled (goal < 0: settle everything) and reports whether goal was reached.
-// Time O(|E| log |V|) for what it visits.
-func (s *search[W]) run(root, goal int, w func(e int32) (W, bool), h []W) bool {
+// when h is non-nil. It stops when goal is settled (goal < 0: settle everything) and reports
+// whether goal was reached. Time O(|E| log |V|) for what it visits.
+func (s *search[W]) run(root, goal int, w func(e int32) (W, bool), h heuristic[W]) bool {
 	s.stamp++
 	if s.stamp == 0 { // wrapped: clear once every 2³² runs
 		clear(s.seen)
@@ -98,7 +106,7 @@ func (s *search[W]) run(root, goal int, w func(e int32) (W, bool), h []W) bool {
 	s.dist[root], s.lenMM[root], s.pred[root], s.seen[root] = 0, 0, -1, st
 	var k W
 	if h != nil {
-		k = h[root]
+		k, _ = h(int32(root))
 	}
 	s.heap.push(k, int32(root))
 	net := s.net
@@ -125,14 +133,15 @@ func (s *search[W]) run(root, goal int, w func(e int32) (W, bool), h []W) bool {
 			if s.seen[v] == st && nd >= s.dist[v] {
 				continue
 			}
-			if h != nil && h[v] < 0 { // h < 0 marks a node that cannot reach goal
-				continue
-			}
-			s.seen[v], s.dist[v], s.lenMM[v], s.pred[v] = st, nd, lu+net.lenMM[a.edge], a.edge
 			k := nd
 			if h != nil {
-				k += h[v]
+				hv, ok := h(v)
+				if !ok {
+					continue
+				}
+				k += hv
 			}
+			s.seen[v], s.dist[v], s.lenMM[v], s.pred[v] = st, nd, lu+net.lenMM[a.edge], a.edge
 			s.heap.push(k, v)
 		}
 	}

@@ -56,11 +56,13 @@ type choice struct {
 
 type state struct {
 	ch       []choice
-	count    []int32   // cables per edge
-	users    [][]int32 // per tracked edge (proposed or limited): demands using it, ascending
-	added    []int     // per limited edge: ducts added
-	over     []bool    // per limited edge: cables do not fit
-	total    int64     // plan cost in cents (without construction and ducts for the length objective)
+	count    []int32    // cables per edge
+	users    [][]int32  // per tracked edge (proposed or limited): demands using it, ascending
+	added    []int      // per limited edge: ducts added
+	over     []bool     // per limited edge: cables do not fit
+	packs    []ductPack // per limited edge: NFPA first-fit packing of its users (nil Fits only)
+	sig      []uint64   // per demand: hash of its choice, for skipping moves already tried
+	total    int64      // plan cost in cents (without construction and ducts for the length objective)
 	totalMM  int64
 	overfull int
 	unrouted int
@@ -112,7 +114,10 @@ type solver struct {
 	proposed []int32
 
 	costTrees map[[2]int]*tree // (anchor, profile)
-	lenTrees  map[[2]int]*tree // (anchor, exclusion class)
+
+	failedClose map[int32]uint64  // edge → signature of its users when closing it failed
+	failedOpen  map[string]uint64 // candidate → signature of its demands when opening failed
+	lenTrees    map[[2]int]*tree  // (anchor, exclusion class)
 
 	cap capacity
 	st  *state
@@ -140,6 +145,7 @@ func newSolver(p *Problem, opt Settings) *solver {
 		lenClass: map[uint64]int{}, fixedE: make([]int64, ne), limited: make([]bool, ne), tracked: make([]bool, ne),
 		ductCent: make([]int64, ne), groups: map[int][]int32{},
 		costTrees: map[[2]int]*tree{}, lenTrees: map[[2]int]*tree{},
+		failedClose: map[int32]uint64{}, failedOpen: map[string]uint64{},
 		cap:    capacity{edges: p.Edges, fits: p.Fits},
 		forbid: make([]bool, ne), phantom: make([]bool, ne), blk: make([]uint32, ne),
 		srch: newSearch[int64](net), rc: newRCSPScratch(net), ps: newPairScratch(net),
@@ -270,7 +276,12 @@ func (sv *solver) lenTree(anchor int, exclude uint64) *tree {
 func newState(sv *solver) *state {
 	ne, nd := len(sv.p.Edges), len(sv.p.Demands)
 	st := &state{ch: make([]choice, nd), count: make([]int32, ne), users: make([][]int32, ne),
-		added: make([]int, ne), over: make([]bool, ne)}
+		added: make([]int, ne), over: make([]bool, ne), packs: make([]ductPack, ne), sig: make([]uint64, nd)}
+	for e := range st.packs {
+		if sv.limited[e] {
+			st.packs[e].areaMM2 = circleMM2(sv.p.Edges[e].DuctIDMM)
+		}
+	}
 	for d := range st.ch {
 		st.ch[d].opt = -1
 		st.unrouted++
@@ -290,10 +301,7 @@ func (sv *solver) refreshDucts(e int) {
 		ods = append(ods, sv.od(int(u), st.ch[u].opt))
 	}
 	sv.odBuf = ods
-	added, ok := 0, true
-	if len(ods) > 0 {
-		added, ok = sv.cap.needed(e, ods)
-	}
+	added, ok := sv.cap.needed(e, ods, &st.packs[e])
 	if !ok {
 		added = st.added[e]
 	}
@@ -324,9 +332,27 @@ func removeSorted(s []int32, v int32) []int32 {
 	return slices.Delete(s, i, i+1)
 }
 
+// mix is a 64-bit hash step (SplitMix64 finaliser).
+func mix(h, v uint64) uint64 {
+	h ^= v + 0x9e3779b97f4a7c15 + (h << 6) + (h >> 2)
+	h ^= h >> 30
+	h *= 0xbf58476d1ce4e5b9
+	h ^= h >> 27
+	h *= 0x94d049bb133111eb
+	return h ^ (h >> 31)
+}
+
 func (sv *solver) add(d int, c choice) {
 	st := sv.st
 	st.ch[d] = c
+	h := mix(0, uint64(c.opt+1))
+	for _, leg := range c.legs {
+		h = mix(h, 1<<40)
+		for _, hp := range leg {
+			h = mix(h, uint64(hp.Edge))
+		}
+	}
+	st.sig[d] = h
 	if c.opt < 0 {
 		return
 	}
@@ -384,30 +410,52 @@ func (sv *solver) remove(d int) choice {
 	return c
 }
 
-// penalty returns the cost of the ducts demand d's cable (option o) would add to edge e, and
-// whether the cable can be pulled there at all. The state must not contain d.
+// penalty returns the price of the ducts demand d's cable (option o) would add to edge e if it
+// were pulled last, and whether it can be pulled there at all; the state must not contain d.
+// Pulling last is an approximation when d is not the last user in demand order (the packing
+// follows demand order): the search uses it to stay O(ducts) per edge, and add and remove
+// then account the exact duct count, so a move is judged on the exact cost.
 func (sv *solver) penalty(d, o int, e int32) (int64, bool) {
 	if sv.penSt[e] == sv.penN {
 		return sv.pen[e], sv.penOK[e]
 	}
 	st := sv.st
+	ed := &sv.p.Edges[e]
 	od := sv.od(d, o)
-	ods := sv.odBuf[:0]
-	ins := false
-	for _, u := range st.users[e] {
-		if !ins && int(u) > d {
-			ods, ins = append(ods, od), true
-		}
-		ods = append(ods, sv.od(int(u), st.ch[u].opt))
-	}
-	if !ins {
-		ods = append(ods, od)
-	}
-	sv.odBuf = ods
-	added, ok := sv.cap.needed(int(e), ods)
 	var pen int64
-	if ok && !sv.length {
-		pen = int64(max(0, added-st.added[e])) * sv.ductCent[e]
+	ok := true
+	avail := ed.Ducts + st.added[e]
+	if od > 0 && sv.cap.fits == nil {
+		pk := &st.packs[e]
+		a := circleMM2(od)
+		room := len(pk.count) < avail && a <= FillOneCable*pk.areaMM2+1e-9
+		for j := 0; j < len(pk.count) && !room; j++ {
+			room = pk.used[j]+a <= FillLimit(pk.count[j]+1)*pk.areaMM2+1e-9
+		}
+		switch {
+		case room:
+		case ed.AddDuctPerMCents > 0 && a <= FillOneCable*pk.areaMM2+1e-9:
+			pen = sv.ductCent[e]
+		default:
+			ok = false
+		}
+	} else if sv.cap.fits != nil {
+		ods := sv.odBuf[:0]
+		for _, u := range st.users[e] {
+			ods = append(ods, sv.od(int(u), st.ch[u].opt))
+		}
+		ods = append(ods, od)
+		sv.odBuf = ods
+		switch {
+		case sv.cap.fits(int(e), ods, avail):
+		case ed.AddDuctPerMCents > 0 && sv.cap.fits(int(e), ods, avail+1):
+			pen = sv.ductCent[e]
+		default:
+			ok = false
+		}
+	}
+	if sv.length {
+		pen = 0
 	}
 	sv.penSt[e], sv.pen[e], sv.penOK[e] = sv.penN, pen, ok
 	return pen, ok
@@ -467,7 +515,7 @@ func (sv *solver) route(d, o int) ([]Hop, int64, bool) {
 	if exact && tr.lenMM[s] <= limit {
 		return hops, tr.dist[s], true
 	}
-	if !sv.srch.run(s, t, w, tr.dist) {
+	if !sv.srch.run(s, t, w, treeH(tr)) {
 		return nil, 0, false
 	}
 	hops = sv.srch.pathTo(t)
@@ -484,11 +532,11 @@ func (sv *solver) route(d, o int) ([]Hop, int64, bool) {
 		}
 		return sv.net.lenMM[e], true
 	}
-	if !sv.srch.run(s, t, lw, lt.dist) || sv.srch.dist[t] > limit {
+	if !sv.srch.run(s, t, lw, treeH(lt)) || sv.srch.dist[t] > limit {
 		return nil, 0, false
 	}
 	pd := sv.srch.pathTo(t)
-	pl := larac(sv.net, sv.rc, s, t, limit, w, hops, pd)
+	pl := larac(sv.net, sv.rc, s, t, limit, w, tr.dist, lt.dist, hops, pd)
 	ub, _ := pathEval(sv.net, pl, w)
 	if ex, ok, _ := labelSearch(sv.net, sv.rc, s, t, limit, w, tr.dist, lt.dist, ub); ok {
 		pl = ex
@@ -572,11 +620,24 @@ func (sv *solver) best(d int) choice {
 	}
 	pruned := func(x lbo) bool { return !sv.length && (x.lb > bestC.obj || (x.lb == bestC.obj && x.opt > bestC.opt)) }
 	if dm.Diverse {
+		var retry []lbo
 		for _, x := range order {
 			if pruned(x) {
 				break
 			}
-			if legs, w, ok := sv.pair(d, x.opt); ok {
+			legs, w, ok, tooLong := sv.pair(d, x.opt, false)
+			if ok {
+				consider(x.opt, legs[:], w)
+			} else if tooLong {
+				retry = append(retry, x)
+			}
+		}
+		// Options whose cheapest pair is too long get the reach scan, if they can still win.
+		for _, x := range retry {
+			if pruned(x) {
+				continue
+			}
+			if legs, w, ok, _ := sv.pair(d, x.opt, true); ok {
 				consider(x.opt, legs[:], w)
 			}
 		}
@@ -639,7 +700,10 @@ func (sv *solver) keepOrRevert(ds []int32, olds []choice, before key) bool {
 	return false
 }
 
-// closeMoves tries closing each opened proposed edge.
+// closeMoves tries closing each opened proposed edge. A move is abandoned as soon as the
+// users rerouted so far cost more than the edge's FixedCents saves (the remaining users would
+// have to get cheaper than before, which rerouting around a closed edge does not do), and a
+// move that failed is not tried again until one of the edge's users changes route.
 func (sv *solver) closeMoves() bool {
 	changed := false
 	for _, e := range sv.proposed {
@@ -647,17 +711,32 @@ func (sv *solver) closeMoves() bool {
 		if st.count[e] == 0 {
 			continue
 		}
-		before := st.key()
 		users := slices.Clone(st.users[e])
+		sig := mix(uint64(e), 7)
+		for _, d := range users {
+			sig = mix(sig, st.sig[d])
+		}
+		if f, ok := sv.failedClose[e]; ok && f == sig {
+			continue
+		}
+		before := st.key()
 		sv.forbid[e] = true
-		olds := make([]choice, len(users))
-		for i, d := range users {
-			olds[i] = sv.remove(int(d))
+		olds := make([]choice, 0, len(users))
+		var done []int32
+		for _, d := range users {
+			olds = append(olds, sv.remove(int(d)))
 			sv.add(int(d), sv.best(int(d)))
+			done = append(done, d)
+			if k := st.key(); k.overfull == before.overfull && k.unrouted == before.unrouted &&
+				k.unmet == before.unmet && st.count[e] > 0 && k.total-before.total > sv.fixedE[e] {
+				break
+			}
 		}
 		sv.forbid[e] = false
-		if sv.keepOrRevert(users, olds, before) {
+		if sv.keepOrRevert(done, olds, before) {
 			changed = true
+		} else {
+			sv.failedClose[e] = sig
 		}
 	}
 	return changed
@@ -747,18 +826,69 @@ func int32Key(es []int32) []byte {
 	return b
 }
 
-// openMoves tries opening each candidate run.
+// saveBound returns an upper bound of what demand d could save by any reroute: its current
+// cost share (option, cable and labour, edges only it opened, ducts on its edges) less its
+// lower-bound cost. Diverse demands still without a pair get no bound (math.MaxInt64 / 4).
+func (sv *solver) saveBound(d int) int64 {
+	st := sv.st
+	c := st.ch[d]
+	dm := &sv.p.Demands[d]
+	if c.opt < 0 || (dm.Diverse && len(c.legs) < 2) {
+		return math.MaxInt64 / 4
+	}
+	cur := c.varCost + dm.Options[c.opt].FixedCents
+	for _, leg := range c.legs {
+		for _, h := range leg {
+			if sv.fixedE[h.Edge] > 0 && st.count[h.Edge] == 1 {
+				cur += sv.fixedE[h.Edge]
+			}
+			if sv.limited[h.Edge] && st.added[h.Edge] > 0 {
+				cur += sv.ductCent[h.Edge]
+			}
+		}
+	}
+	lb := int64(math.MaxInt64)
+	for o := range dm.Options {
+		t := sv.costTree(sv.to[d], sv.optProf[d][o]).dist[sv.from[d]]
+		if t < 0 {
+			continue
+		}
+		if dm.Diverse {
+			t *= 2
+		}
+		lb = min(lb, t+dm.Options[o].FixedCents)
+	}
+	return max(0, cur-lb)
+}
+
+// openMoves tries opening each candidate run. A candidate whose affected demands could not
+// together save the FixedCents of its unopened edges (by saveBound) is skipped, and a move
+// that failed is not tried again until an affected demand changes route.
 func (sv *solver) openMoves() bool {
 	changed := false
 	for _, c := range sv.openCandidates() {
 		st := sv.st
-		closed := false
+		var openCost int64
+		sig := mix(0, 11)
 		for _, e := range c.edges {
 			if st.count[e] == 0 {
-				closed = true
+				openCost += sv.fixedE[e]
+				sig = mix(sig, uint64(e))
 			}
 		}
-		if !closed || len(c.affected) == 0 {
+		if openCost == 0 || len(c.affected) == 0 {
+			continue
+		}
+		var bound int64
+		for _, d := range c.affected {
+			bound += sv.saveBound(int(d))
+			sig = mix(sig, st.sig[d])
+		}
+		if bound <= openCost {
+			continue
+		}
+		k := string(int32Key(c.edges))
+		if f, ok := sv.failedOpen[k]; ok && f == sig {
 			continue
 		}
 		before := st.key()
@@ -775,6 +905,8 @@ func (sv *solver) openMoves() bool {
 		}
 		if sv.keepOrRevert(c.affected, olds, before) {
 			changed = true
+		} else {
+			sv.failedOpen[k] = sig
 		}
 	}
 	return changed
@@ -827,6 +959,9 @@ func (sv *solver) run() {
 	if sv.length || len(sv.proposed) == 0 {
 		return
 	}
+	if len(sv.p.Demands)*len(sv.proposed) > maxSecondStart {
+		return
+	}
 	first := sv.st
 	sv.start(true)
 	sv.rounds += sv.improve()
@@ -837,6 +972,10 @@ func (sv *solver) run() {
 		sv.kicks()
 	}
 }
+
+// maxSecondStart bounds demands × proposed edges for which Solve also starts from the plan with
+// every proposed edge free; on larger problems the second start seldom wins and doubles the time.
+const maxSecondStart = 100000
 
 // maxKickWork bounds demands × proposed edges for which Solve runs the perturbation phase.
 const maxKickWork = 4096

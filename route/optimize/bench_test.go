@@ -1,0 +1,46 @@
+package optimize
+
+import (
+	"fmt"
+	"sync"
+	"testing"
+)
+
+var (
+	benchOnce     sync.Once
+	benchCampuses map[int]*Problem
+	benchSizes    = []int{100, 1000, 5000}
+)
+
+// benchCampus returns the synthetic campus of n buildings (10 % proposed edges, 10 % diverse
+// demands, duct capacity on existing edges, two cross-connects), built once.
+func benchCampus(n int) *Problem {
+	benchOnce.Do(func() {
+		benchCampuses = map[int]*Problem{}
+		for _, s := range benchSizes {
+			benchCampuses[s] = campus(campusSpec{buildings: s, seed: 7, diverseFrac: 0.1, options: 3, capacity: true, proposedPct: 10})
+		}
+	})
+	return benchCampuses[n]
+}
+
+// BenchmarkSolve solves synthetic campuses of 100, 1,000 and 5,000 buildings.
+func BenchmarkSolve(b *testing.B) {
+	for _, n := range benchSizes {
+		b.Run(fmt.Sprintf("buildings_%d", n), func(b *testing.B) {
+			p := benchCampus(n)
+			b.ReportAllocs()
+			b.ResetTimer()
+			var sol *Solution
+			for i := 0; i < b.N; i++ {
+				var err error
+				if sol, err = Solve(p, Settings{}); err != nil {
+					b.Fatal(err)
+				}
+			}
+			b.ReportMetric(float64(len(p.Edges)), "edges")
+			b.ReportMetric(float64(len(sol.Infeasible)), "infeasible")
+			b.ReportMetric(float64(sol.Rounds), "rounds")
+		})
+	}
+}
