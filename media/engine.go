@@ -164,6 +164,7 @@ type candidate struct {
 	why        string // the first failed rule's rendered reason
 	prefer     []bool // per prefer rule, in rule order
 	costCents  int64
+	cableCents int64 // the cable part of costCents
 	strands    int
 }
 
@@ -257,7 +258,7 @@ func (e *Engine) evaluate(l Link, mi, ai, ki int) *candidate {
 		}
 	}
 	if c.failed < 0 {
-		c.costCents = e.cost(c, channel)
+		c.cableCents, c.costCents = e.cost(c, channel)
 	}
 	return c
 }
@@ -321,12 +322,13 @@ func (e *Engine) future(l Link, c *candidate) {
 // for copper) at each end, and one transceiver at each end. Two transceivers serve the link
 // whether the PHY is duplex (2 fibres) or parallel (8 fibres in one module each end).
 // Labour, pathway and enclosures are not part of it.
-func (e *Engine) cost(c *candidate, channelM float64) int64 {
+func (e *Engine) cost(c *candidate, channelM float64) (cableCents, totalCents int64) {
 	size, n := c.k.Fit(c.strands)
 	perM, _ := e.prices.Price(PriceKey{Item: PriceCable, Medium: c.m.ID, Construction: c.k.ID, Count: size.Count})
 	term, _ := e.prices.Price(PriceKey{Item: PriceTermination, Medium: c.m.ID})
 	trx, _ := e.prices.Price(PriceKey{Item: PriceTransceiver, Name: c.a.Transceiver})
-	return MulCents(perM*int64(n), channelM) + 2*int64(c.strands)*term + 2*trx
+	cableCents = MulCents(perM*int64(n), channelM)
+	return cableCents, cableCents + 2*int64(c.strands)*term + 2*trx
 }
 
 // checkLink lists what is wrong with a link's facts, or "" when nothing is.
@@ -405,7 +407,8 @@ func (e *Engine) Choose(l Link) Choice {
 	if len(ok) > 0 {
 		win = ok[0]
 		ch = Choice{Feasible: true, Medium: win.m.ID, Application: win.a.Name, Construction: win.k.ID,
-			Losses: win.losses, CostCents: win.costCents}
+			Losses: win.losses, CostCents: win.costCents,
+			CableCents: win.cableCents, Strands: win.strands}
 	}
 	var summary []string
 	for mi, m := range e.cat.Media {

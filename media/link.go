@@ -53,6 +53,8 @@ type Choice struct {
 	Construction string // e.g. "osp-loose-tube"
 	Losses       []Loss // fibre only, one per test wavelength, ascending; see Loss.Operating
 	CostCents    int64  // installed cost of the medium: cable, terminations, transceivers
+	CableCents   int64  // the cable part of CostCents; the rest is terminations and transceivers
+	Strands      int    // strands terminated at each end (4-pair cables for copper)
 	Reason       string // why this medium, or why no medium fits when !Feasible
 	Rejected     []Rejection
 }
