@@ -10,6 +10,7 @@ import (
 	"strings"
 
 	"spanwright/geo"
+	"spanwright/media"
 )
 
 // Unit systems for the outputs' edges; inside, everything is metric.
@@ -83,27 +84,83 @@ func round1(x float64) float64 {
 	return v
 }
 
+// Wavelengths reported in the loss columns, in nm: multimode 850 and 1300, single-mode
+// 1310 and 1550 (ANSI/TIA-568.3-D test wavelengths).
+var Wavelengths = []int{850, 1300, 1310, 1550}
+
+// lossAt returns the leg's loss at nm, if it has one.
+func (l *Leg) lossAt(nm int) (media.Loss, bool) {
+	for _, x := range l.Losses {
+		if x.WavelengthNM == nm {
+			return x, true
+		}
+	}
+	return media.Loss{}, false
+}
+
+// worstLoss returns the operating wavelength with the smallest margin.
+func (l *Leg) worstLoss() (media.Loss, bool) {
+	var w media.Loss
+	found := false
+	for _, x := range l.Losses {
+		if x.Operating && (!found || x.MarginDB < w.MarginDB) {
+			w, found = x, true
+		}
+	}
+	return w, found
+}
+
+// Explain is the leg's reason in words: why it is infeasible, or why its medium was chosen
+// and why each other medium was not.
+func (l *Leg) Explain() string {
+	if !l.Feasible {
+		return l.Reason
+	}
+	parts := []string{l.Choice}
+	for _, rj := range l.Rejected {
+		parts = append(parts, rj.Reason)
+	}
+	return strings.Join(parts, "; ")
+}
+
+func round2(x float64) float64 {
+	v, _ := strconv.ParseFloat(strconv.FormatFloat(x, 'f', 2, 64), 64)
+	return v
+}
+
 func (r *Result) routesGeoJSON() ([]byte, error) {
 	var feats []geo.RouteFeature
-	for _, l := range r.Legs {
+	for i := range r.Legs {
+		l := &r.Legs[i]
 		if !l.Feasible {
 			continue
 		}
-		feats = append(feats, geo.RouteFeature{
-			FromBuilding: l.Link.To,
-			ToBuilding:   l.Link.From,
-			Steps:        l.Steps,
-			Props: map[string]any{
-				"link":     l.Link.ID,
-				"from":     l.Link.From,
-				"to":       l.Link.To,
-				"leg":      l.Name,
-				"rate":     l.Link.Rate,
-				"route_m":  round1(l.RouteM),
-				"riser_m":  round1(l.RiserM),
-				"pathways": append([]string{}, l.Pathways...),
-			},
-		})
+		props := map[string]any{
+			"link":         l.Link.ID,
+			"from":         l.Link.From,
+			"to":           l.Link.To,
+			"leg":          l.Name,
+			"rate":         l.Link.Rate,
+			"route_m":      round1(l.RouteM),
+			"riser_m":      round1(l.RiserM),
+			"pathways":     append([]string{}, l.Pathways...),
+			"medium":       l.Medium,
+			"application":  l.Application,
+			"construction": l.Construction,
+			"strands":      l.StrandsCable,
+			"reason":       l.Explain(),
+			"cost_cents":   l.Cost.TotalCents(),
+		}
+		for _, nm := range Wavelengths {
+			if x, ok := l.lossAt(nm); ok {
+				props[fmt.Sprintf("loss_%d_db", nm)] = round2(x.LossDB)
+			}
+		}
+		if w, ok := l.worstLoss(); ok {
+			props["limit_db"] = round2(w.LimitDB)
+			props["margin_db"] = round2(w.MarginDB)
+		}
+		feats = append(feats, geo.RouteFeature{FromBuilding: l.Link.To, ToBuilding: l.Link.From, Steps: l.Steps, Props: props})
 	}
 	var buf bytes.Buffer
 	if err := r.Site.Net.WriteRoutes(&buf, feats); err != nil {
@@ -118,11 +175,49 @@ func (r *Result) linksCSV(opt WriteOptions) ([]byte, error) {
 	routeH, routeF := opt.lengthCol("route")
 	latH, latF := opt.lengthCol("lateral")
 	riserH, riserF := opt.lengthCol("riser")
-	w.Write([]string{"link", "leg", "from", "to", "rate", "future_rate", "strands", routeH, latH, riserH, "pathways", "feasible", "reason"})
-	for _, l := range r.Legs {
-		w.Write([]string{l.Link.ID, l.Name, l.Link.From, l.Link.To, l.Link.Rate, l.Link.FutureRate,
-			strconv.Itoa(l.Link.Strands), routeF(l.RouteM), latF(l.LateralM), riserF(l.RiserM),
-			strings.Join(l.Pathways, " "), strconv.FormatBool(l.Feasible), l.Reason})
+	head := []string{"link", "leg", "from", "to", "rate", "future_rate", "strands", routeH, latH, riserH, "pathways",
+		"feasible", "medium", "application", "construction"}
+	for _, nm := range Wavelengths {
+		head = append(head, fmt.Sprintf("loss_%d_db", nm))
+	}
+	for _, nm := range Wavelengths {
+		head = append(head, fmt.Sprintf("field_limit_%d_db", nm))
+	}
+	cur := strings.ToLower(r.Currency)
+	if cur == "" {
+		cur = "cents"
+	}
+	head = append(head, "limit_db", "margin_db", "cost_"+cur, "cable_"+cur, "labour_"+cur, "construction_"+cur, "optics_"+cur, "reason")
+	w.Write(head)
+	db := func(x float64) string { return strconv.FormatFloat(x, 'f', 2, 64) }
+	for i := range r.Legs {
+		l := &r.Legs[i]
+		row := []string{l.Link.ID, l.Name, l.Link.From, l.Link.To, l.Link.Rate, l.Link.FutureRate,
+			strconv.Itoa(l.StrandsCable), routeF(l.RouteM), latF(l.LateralM), riserF(l.RiserM),
+			strings.Join(l.Pathways, " "), strconv.FormatBool(l.Feasible), l.Medium, l.Application, l.Construction}
+		for _, nm := range Wavelengths {
+			if x, ok := l.lossAt(nm); ok {
+				row = append(row, db(x.LossDB))
+			} else {
+				row = append(row, "")
+			}
+		}
+		for _, nm := range Wavelengths {
+			if x, ok := l.lossAt(nm); ok && x.FieldLimitDB > 0 {
+				row = append(row, db(x.FieldLimitDB))
+			} else {
+				row = append(row, "")
+			}
+		}
+		if wl, ok := l.worstLoss(); ok {
+			row = append(row, db(wl.LimitDB), db(wl.MarginDB))
+		} else {
+			row = append(row, "", "")
+		}
+		c := l.Cost
+		row = append(row, media.FormatCents(c.TotalCents()), media.FormatCents(c.CableCents), media.FormatCents(c.LabourCents),
+			media.FormatCents(c.ConstructionCents), media.FormatCents(c.OpticsCents), l.Explain())
+		w.Write(row)
 	}
 	w.Flush()
 	return buf.Bytes(), w.Error()
@@ -171,8 +266,8 @@ func (r *Result) Summarize() Summary {
 		if l.Medium != "" {
 			s.MediaMix[l.Medium]++
 		}
-		if len(l.Losses) > 0 && (s.WorstMarginDB == nil || l.WorstMarginDB < *s.WorstMarginDB) {
-			m := l.WorstMarginDB
+		if _, ok := l.worstLoss(); ok && (s.WorstMarginDB == nil || l.WorstMarginDB < *s.WorstMarginDB) {
+			m := round2(l.WorstMarginDB)
 			s.WorstMarginDB = &m
 		}
 	}

@@ -70,7 +70,9 @@ type Design struct {
 	AllowOutdoorCopper bool    `yaml:"allow_outdoor_copper"`
 	MaxLateralM        float64 `yaml:"max_lateral_m"`
 	SnapM              float64 `yaml:"snap_m"`
-	SlackM             float64 `yaml:"slack_m"` // slack per link end, in metres
+	SlackM             float64 `yaml:"slack_m"`        // slack per link end, in metres
+	PairLossDB         float64 `yaml:"pair_loss_db"`   // design loss per mated connector pair; 0 = catalog (TIA-568.3-D 0.75 dB)
+	SpliceLossDB       float64 `yaml:"splice_loss_db"` // design loss per splice; 0 = catalog (TIA-568.3-D 0.3 dB)
 	Objective          string  `yaml:"objective"`
 }
 
@@ -323,6 +325,12 @@ func (p *Plan) validate() []error {
 	}
 	if g.SlackM < 0 {
 		bad(0, "design.slack_m", "want metres >= 0, got %g", g.SlackM)
+	}
+	if g.PairLossDB < 0 {
+		bad(0, "design.pair_loss_db", "want dB >= 0, got %g", g.PairLossDB)
+	}
+	if g.SpliceLossDB < 0 {
+		bad(0, "design.splice_loss_db", "want dB >= 0, got %g", g.SpliceLossDB)
 	}
 	if g.Objective != ObjectiveCost && g.Objective != ObjectiveLength {
 		bad(0, "design.objective", "want %q or %q, got %q", ObjectiveCost, ObjectiveLength, g.Objective)

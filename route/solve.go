@@ -4,10 +4,13 @@ import (
 	"context"
 	"errors"
 	"fmt"
-	"math"
+	"sort"
+	"strconv"
+	"strings"
 
 	"spanwright/geo"
 	"spanwright/media"
+	"spanwright/route/optimize"
 )
 
 // Leg names.
@@ -68,6 +71,10 @@ type Result struct {
 	// ExtraCents is plan-level cost not carried by any leg (for example markups); the
 	// plan's total is the legs' totals plus ExtraCents.
 	ExtraCents int64
+
+	Engine *media.Engine // the engine that chose the media
+	Opened []string      // proposed spans the plan builds, by span ID
+	Fill   []SegmentFill // duct fill of every span that carries cable, by span ID
 }
 
 // ErrInfeasible is returned, wrapped in an *InfeasibleError, when a plan finished but some
@@ -112,33 +119,274 @@ func (s *Site) Hub(p *Plan) (string, error) {
 	return hub, nil
 }
 
-// Solve plans p on the site: resolves the hub and links, checks that every building served
-// can reach the hub, and routes every leg. Input problems come back together as one error;
-// infeasible legs do not stop the plan (see Result.Infeasible).
+// Engine builds the media rule engine of a plan: its catalog, rules and price book (the
+// embedded defaults where the plan names none) and its design options.
+func Engine(p *Plan) (*media.Engine, error) {
+	var cat *media.Catalog
+	var rules *media.Rules
+	var prices *media.PriceBook
+	var errs []error
+	if p.Catalog != "" {
+		c, err := media.LoadCatalog(p.Path(p.Catalog))
+		cat = c
+		if err != nil {
+			errs = append(errs, err)
+		}
+	}
+	if p.Rules != "" {
+		r, err := media.LoadRules(p.Path(p.Rules))
+		rules = r
+		if err != nil {
+			errs = append(errs, err)
+		}
+	}
+	if p.Prices != "" {
+		b, err := media.LoadPriceBook(p.Path(p.Prices))
+		prices = b
+		if err != nil {
+			errs = append(errs, err)
+		}
+	}
+	if len(errs) > 0 {
+		return nil, &ErrorList{Errs: errs}
+	}
+	return media.NewEngine(cat, rules, prices, media.EngineOptions{
+		LossMarginDB: p.Design.LossMarginDB, AllowOutdoorCopper: p.Design.AllowOutdoorCopper,
+		PairLossDB: p.Design.PairLossDB, SpliceLossDB: p.Design.SpliceLossDB})
+}
+
+// Solve plans p on the site with the plan's own engine (see Engine).
 func Solve(ctx context.Context, s *Site, p *Plan) (*Result, error) {
+	eng, err := Engine(p)
+	if err != nil {
+		return nil, err
+	}
+	return SolveWith(ctx, s, p, eng)
+}
+
+// SolveWith plans p on the site: resolves the hub and links, checks that every building
+// served can reach the hub, routes every leg and chooses its medium with the optimizer and
+// the engine. Input problems come back together as one error; infeasible legs do not stop
+// the plan (see Result.Infeasible).
+func SolveWith(ctx context.Context, s *Site, p *Plan, eng *media.Engine) (*Result, error) {
 	hub, err := s.Hub(p)
 	if err != nil {
 		return nil, err
 	}
 	links, errs := s.Links(p, hub)
+	cat := eng.Catalog()
+	for _, l := range links {
+		if _, err := cat.ParseRate(l.Rate); err != nil {
+			errs = append(errs, &PlanError{File: p.File, Line: l.Line, Key: "rate", Err: fmt.Errorf("%w: link %s: %v", ErrPlan, l.ID, err)})
+		}
+		if l.FutureRate != "" {
+			if _, err := cat.ParseRate(l.FutureRate); err != nil {
+				errs = append(errs, &PlanError{File: p.File, Line: l.Line, Key: "future_rate", Err: fmt.Errorf("%w: link %s: %v", ErrPlan, l.ID, err)})
+			}
+		}
+	}
 	if un := s.unreachableServed(hub, links); len(un) > 0 {
 		errs = append(errs, &PlanError{File: p.File, Key: "hub", Err: fmt.Errorf("%w: %d buildings cannot reach the hub %q through the pathway network: %v", geo.ErrUnreachable, len(un), hub, un)})
+	}
+	cm, err := newCostModel(eng, p.Design)
+	if err != nil {
+		errs = append(errs, err)
 	}
 	if len(errs) > 0 {
 		return nil, &ErrorList{Errs: errs}
 	}
-	r := &Result{Plan: p, Site: s, Hub: hub, Links: links}
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	prob, infos, err := s.problem(cm, links)
+	if err != nil {
+		return nil, err
+	}
+	sol, err := optimize.Solve(prob, optimize.Settings{Objective: p.Design.Objective})
+	if err != nil {
+		return nil, fmt.Errorf("route: optimizer: %w", err)
+	}
+	r := &Result{Plan: p, Site: s, Hub: hub, Links: links, Currency: eng.PriceBook().Currency, Engine: eng}
 	for _, w := range s.Net.Warnings {
 		r.Warnings = append(r.Warnings, w.File+": "+w.Feature+": "+w.Message)
 	}
-	g := NewGraph(s.Net) // a private copy: diverse routing changes weights
-	for i := range r.Links {
-		if err := ctx.Err(); err != nil {
-			return nil, err
-		}
-		r.Legs = append(r.Legs, s.routeLink(g, &r.Links[i])...)
+	for _, e := range sol.Opened {
+		r.NewTrenchM += prob.Edges[e].LengthM
+		r.Opened = append(r.Opened, s.Net.Spans[e].ID)
+	}
+	r.Fill = s.fillReport(prob, sol)
+	infeasible := map[int]string{}
+	for _, in := range sol.Infeasible {
+		infeasible[in.Demand] = in.Reason
+	}
+	for i := range links {
+		r.Legs = append(r.Legs, s.legsOf(cm, prob, &sol.Routes[i], &r.Links[i], infos[i], infeasible[i])...)
 	}
 	return r, nil
+}
+
+// legsOf turns the optimizer's route of one link into its legs, with media and costs.
+func (s *Site) legsOf(cm *costModel, prob *optimize.Problem, rt *optimize.Route, l *Link, info demandInfo, why string) []Leg {
+	from, to := s.access[l.To], s.access[l.From]
+	base := Leg{Link: l, RiserM: info.facts.RiserM, LateralM: from.LateralM + to.LateralM, StrandsCable: info.strands}
+	primary := base
+	primary.Name = LegPrimary
+	if !rt.Feasible {
+		primary.Reason = why
+		if primary.Reason == "" {
+			primary.Reason = "no route and medium satisfy the rules"
+		}
+		if len(info.excluded) > 0 {
+			primary.Reason += "; before routing: " + strings.Join(info.excluded, "; ")
+		}
+		legs := []Leg{primary}
+		if l.Diverse {
+			d := base
+			d.Name, d.Reason = LegDiverse, "the primary leg is infeasible"
+			legs = append(legs, d)
+		}
+		return legs
+	}
+	s.fillLeg(cm, prob, &primary, rt.Primary, rt.Medium, info)
+	primary.Cost.ConstructionCents = rt.Cost.ConstructionShareCents + rt.Cost.AddedDuctCents
+	legs := []Leg{primary}
+	if l.Diverse {
+		d := base
+		d.Name = LegDiverse
+		if len(rt.Secondary.Hops) > 0 {
+			s.fillLeg(cm, prob, &d, rt.Secondary, rt.Medium, info)
+		} else {
+			d.Reason = "no diverse route: " + s.singlePoint(prob, rt)
+		}
+		legs = append(legs, d)
+	}
+	return legs
+}
+
+// fillLeg sets a leg's route, its medium from the rule engine on the route's own facts, and
+// its cable, labour and optics costs.
+func (s *Site) fillLeg(cm *costModel, prob *optimize.Problem, leg *Leg, ol optimize.Leg, medium string, info demandInfo) {
+	leg.RouteM = leg.LateralM
+	emi := geo.EMINone
+	outdoor := leg.LateralM > 0
+	types := map[string]bool{}
+	seen := map[string]bool{}
+	var labour int64
+	for _, h := range ol.Hops {
+		sp := &s.Net.Spans[h.Edge]
+		leg.Steps = append(leg.Steps, geo.Step{SpanID: sp.ID, Reverse: !h.Forward})
+		leg.RouteM += sp.LengthM
+		labour += media.MulCents(cm.labourPerM[sp.Type], sp.LengthM)
+		if !seen[sp.PathwayID] {
+			seen[sp.PathwayID] = true
+			leg.Pathways = append(leg.Pathways, sp.PathwayID)
+		}
+		types[sp.Type] = true
+		if sp.Type != geo.TypeTray {
+			outdoor = true
+		}
+		if emiRank[sp.EMI] > emiRank[emi] {
+			emi = sp.EMI
+		}
+	}
+	labour += media.MulCents(cm.labourPerM[geo.TypeTray], leg.RiserM) + media.MulCents(cm.labourPerM[geo.TypeBuried], leg.LateralM)
+	facts := info.facts
+	facts.RouteM = leg.RouteM
+	facts.MaxEMI = emi
+	facts.Outdoor = outdoor
+	for t := range types {
+		facts.PathwayTypes = append(facts.PathwayTypes, t)
+	}
+	sort.Strings(facts.PathwayTypes)
+	ch := cm.eng.Choose(facts)
+	leg.Rejected = ch.Rejected
+	leg.Choice = ch.Reason
+	if !ch.Feasible {
+		leg.Reason = ch.Reason
+		return
+	}
+	leg.Feasible = true
+	leg.Medium, leg.Application, leg.Construction = ch.Medium, ch.Application, ch.Construction
+	leg.Losses = ch.Losses
+	leg.WorstMarginDB = worstMargin(ch.Losses)
+	if ch.Medium != medium {
+		leg.Choice += fmt.Sprintf(" (the optimizer routed it for %s)", medium)
+	}
+	leg.Cost.CableCents = ch.CableCents
+	leg.Cost.OpticsCents = ch.CostCents - ch.CableCents
+	leg.Cost.LabourCents = labour
+}
+
+var emiRank = map[string]int{geo.EMINone: 0, geo.EMILow: 1, geo.EMIHigh: 2}
+
+// worstMargin is the smallest margin over the operating wavelengths, 0 when none.
+func worstMargin(ls []media.Loss) float64 {
+	w, any := 0.0, false
+	for _, l := range ls {
+		if !l.Operating {
+			continue
+		}
+		if !any || l.MarginDB < w {
+			w, any = l.MarginDB, true
+		}
+	}
+	return w
+}
+
+// singlePoint says in words what keeps a diverse link from two independent routes.
+func (s *Site) singlePoint(prob *optimize.Problem, rt *optimize.Route) string {
+	sp := rt.SinglePoint
+	if sp == nil {
+		if rt.Note != "" {
+			return rt.Note
+		}
+		return "no second route found"
+	}
+	var what string
+	switch sp.Kind {
+	case optimize.PointEdge:
+		what = fmt.Sprintf("every route uses span %s (pathway %s)", s.Net.Spans[sp.Index].ID, s.Net.Spans[sp.Index].PathwayID)
+	case optimize.PointNode:
+		what = fmt.Sprintf("every route passes junction %s", s.Net.Junctions[sp.Index].ID)
+	case optimize.PointGroup:
+		what = fmt.Sprintf("every route found shares the shared-risk group %s", s.groupName(prob, sp.Index))
+	}
+	if !sp.Separates && sp.Kind == optimize.PointGroup {
+		what += " (a heuristic finding: group-disjoint routing is NP-hard)"
+	}
+	return what
+}
+
+func (s *Site) groupName(prob *optimize.Problem, g int) string {
+	for i, e := range prob.Edges {
+		if e.Group == g {
+			return s.Net.Spans[i].Group
+		}
+	}
+	return strconv.Itoa(g)
+}
+
+// SegmentFill is the duct fill of one span that carries cable.
+type SegmentFill struct {
+	Span           string
+	PathwayID      string
+	Cables         int
+	Limited        bool // false: unlimited capacity (proposed, tunnel, tray, aerial, buried)
+	Ducts          int
+	AddedDucts     int
+	UsedAreaMM2    float64
+	AllowedAreaMM2 float64
+}
+
+func (s *Site) fillReport(prob *optimize.Problem, sol *optimize.Solution) []SegmentFill {
+	out := make([]SegmentFill, 0, len(sol.Fill))
+	for _, f := range sol.Fill {
+		sp := &s.Net.Spans[f.Edge]
+		out = append(out, SegmentFill{Span: sp.ID, PathwayID: sp.PathwayID, Cables: f.Cables, Limited: f.Limited,
+			Ducts: f.Ducts, AddedDucts: f.AddedDucts, UsedAreaMM2: f.UsedAreaMM2, AllowedAreaMM2: f.AllowedAreaMM2})
+	}
+	sort.Slice(out, func(i, j int) bool { return out[i].Span < out[j].Span })
+	return out
 }
 
 // unreachableServed lists the buildings at either end of a link that cannot reach the hub.
@@ -155,54 +403,4 @@ func (s *Site) unreachableServed(hub string, links []Link) []string {
 		}
 	}
 	return out
-}
-
-// routeLink routes the legs of one link on length: the shortest path, and for a diverse
-// link the shortest path that shares no span with the first.
-func (s *Site) routeLink(g *Graph, l *Link) []Leg {
-	from, to := s.access[l.To], s.access[l.From]
-	riser := s.building[l.To].RiserM + s.building[l.From].RiserM
-	names := []string{LegPrimary}
-	if l.Diverse {
-		names = append(names, LegDiverse)
-	}
-	g.SetWeight(func(sp *geo.Span) float64 { return sp.LengthM })
-	var legs []Leg
-	for _, name := range names {
-		leg := Leg{Link: l, Name: name, RiserM: riser, LateralM: from.LateralM + to.LateralM}
-		steps, ok := s.shortestPath(g, from.Junction, to.Junction)
-		if !ok {
-			leg.Reason = "no path through the pathway network"
-			if name == LegDiverse {
-				leg.Reason = "no second route that shares no pathway span with the primary"
-			}
-			legs = append(legs, leg)
-			continue
-		}
-		leg.Feasible = true
-		leg.Steps = steps
-		leg.RouteM = leg.LateralM
-		seen := map[string]bool{}
-		for _, st := range steps {
-			sp, _ := s.Net.Span(st.SpanID)
-			leg.RouteM += sp.LengthM
-			if !seen[sp.PathwayID] {
-				seen[sp.PathwayID] = true
-				leg.Pathways = append(leg.Pathways, sp.PathwayID)
-			}
-		}
-		legs = append(legs, leg)
-		// Exclude the primary's spans before looking for the diverse leg.
-		used := map[string]bool{}
-		for _, st := range steps {
-			used[st.SpanID] = true
-		}
-		g.SetWeight(func(sp *geo.Span) float64 {
-			if used[sp.ID] {
-				return math.Inf(1)
-			}
-			return sp.LengthM
-		})
-	}
-	return legs
 }

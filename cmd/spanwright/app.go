@@ -10,6 +10,7 @@ import (
 	"github.com/urfave/cli/v2"
 
 	"spanwright/geo"
+	"spanwright/media"
 	"spanwright/route"
 )
 
@@ -36,12 +37,15 @@ func exitCode(err error) int {
 	var gl *geo.ErrorList
 	var pe *route.PlanError
 	var rl *route.ErrorList
+	var mf *media.FileError
+	var ml *media.ErrorList
 	switch {
 	case err == nil:
 		return exitOK
 	case errors.Is(err, route.ErrInfeasible):
 		return exitInfeasible
 	case errors.As(err, &ue), errors.As(err, &fe), errors.As(err, &gl), errors.As(err, &pe), errors.As(err, &rl),
+		errors.As(err, &mf), errors.As(err, &ml), errors.Is(err, media.ErrMissingPrice),
 		errors.Is(err, errInvalid), errors.Is(err, fs.ErrNotExist),
 		strings.HasPrefix(err.Error(), "Required flag"), strings.HasPrefix(err.Error(), "flag provided but not defined"):
 		// urfave/cli reports missing required flags as plain errors; they are usage mistakes.
@@ -64,6 +68,8 @@ func newApp() *cli.App {
 			checkCommand(),
 			planCommand(),
 			demoCommand(),
+			mediaCommand(),
+			sweepCommand(), mergeCommand(),
 		},
 		OnUsageError:    onUsageError,
 		HideHelpCommand: true,

@@ -1,0 +1,47 @@
+package main
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"io"
+
+	"github.com/urfave/cli/v2"
+
+	"spanwright/route/sweep"
+)
+
+func mergeCommand() *cli.Command {
+	return &cli.Command{
+		Name:      "merge",
+		Usage:     "join the output folders of a sharded sweep into one comparison",
+		ArgsUsage: "DIR...",
+		Description: "Reads the rows files (rows.jsonl, rows-i-of-n.jsonl) of every folder named and\n" +
+			"writes compare.csv, compare.xlsx, compare.md and rows.jsonl to --out, the same bytes\n" +
+			"as the unsharded sweep writes. Scenario folders stay where the shards wrote them.\n\n" +
+			"EXIT STATUS\n   0 every scenario planned with all legs feasible, 1 internal error,\n" +
+			"   2 the rows do not make one whole sweep (missing shards, different sweeps) or some\n" +
+			"   scenario failed, 3 some scenario has infeasible legs.",
+		Flags: []cli.Flag{
+			&cli.PathFlag{Name: "out", Usage: "output folder for the comparison", Required: true, TakesFile: true},
+		},
+		Action: func(c *cli.Context) error {
+			if c.NArg() == 0 {
+				return usageError{fmt.Errorf("merge: name the output folders of the shards")}
+			}
+			return runMerge(c.Context, c.Args().Slice(), c.Path("out"), c.App.Writer)
+		},
+	}
+}
+
+func runMerge(_ context.Context, dirs []string, out string, w io.Writer) error {
+	rep, err := sweep.Merge(dirs, out)
+	if errors.Is(err, sweep.ErrMerge) {
+		return invalid{err}
+	}
+	if err != nil {
+		return err
+	}
+	printReport(w, rep, sweep.Shard{})
+	return outcome(rep)
+}

@@ -1,0 +1,198 @@
+package main
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"runtime"
+	"strings"
+	"time"
+
+	"github.com/schollz/progressbar/v3"
+	"github.com/urfave/cli/v2"
+	"golang.org/x/term"
+
+	"spanwright/route"
+	"spanwright/route/sweep"
+)
+
+func sweepCommand() *cli.Command {
+	return &cli.Command{
+		Name:      "sweep",
+		Usage:     "plan every alternative of a sweep file and compare them",
+		ArgsUsage: "SWEEP.yaml",
+		Description: "Plans the base plan of the sweep file once per scenario (the product of its vary\n" +
+			"axes, then each of its cases), writes each scenario's outputs to OUT/<scenario id>/\n" +
+			"and the comparison to OUT/compare.csv, compare.xlsx and compare.md.\n\n" +
+			"With --shard i/n only the scenarios whose index mod n is i-1 are planned and their\n" +
+			"rows written to OUT/rows-i-of-n.jsonl; `spanwright merge` joins the shards.\n\n" +
+			"EXIT STATUS\n   0 every scenario planned with all legs feasible, 1 internal error or interrupted,\n" +
+			"   2 the sweep file is invalid or some scenario failed (the others are still written),\n" +
+			"   3 some scenario has infeasible legs.",
+		Flags: []cli.Flag{
+			&cli.PathFlag{Name: "out", Usage: "output folder", Required: true, TakesFile: true},
+			&cli.IntFlag{Name: "jobs", Value: runtime.NumCPU(), Usage: "scenarios planned at once"},
+			&cli.BoolFlag{Name: "resume", Usage: "skip scenarios whose outputs exist and whose inputs are unchanged"},
+			&cli.StringFlag{Name: "shard", Usage: "plan part `i/n` of the sweep only: the scenarios whose index mod n is i-1"},
+			&cli.BoolFlag{Name: "quiet", Usage: "print no progress on stderr"},
+			unitsFlag,
+		},
+		Action: func(c *cli.Context) error {
+			opt, err := sweepOpts(c)
+			if err != nil {
+				return err
+			}
+			return runSweep(c.Context, opt, c.App.Writer, c.App.ErrWriter)
+		},
+	}
+}
+
+type sweepOptions struct {
+	file   string
+	out    string
+	jobs   int
+	resume bool
+	quiet  bool
+	shard  sweep.Shard
+	write  route.WriteOptions
+}
+
+func sweepOpts(c *cli.Context) (sweepOptions, error) {
+	w, err := writeOptions(c)
+	if err != nil {
+		return sweepOptions{}, err
+	}
+	if c.NArg() != 1 {
+		return sweepOptions{}, usageError{fmt.Errorf("sweep: name exactly one sweep file")}
+	}
+	if c.Int("jobs") < 1 {
+		return sweepOptions{}, usageError{fmt.Errorf("--jobs: want at least 1, got %d", c.Int("jobs"))}
+	}
+	o := sweepOptions{file: c.Args().First(), out: c.Path("out"), jobs: c.Int("jobs"),
+		resume: c.Bool("resume"), quiet: c.Bool("quiet"), write: w}
+	if s := c.String("shard"); s != "" {
+		if o.shard, err = sweep.ParseShard(s); err != nil {
+			return sweepOptions{}, usageError{fmt.Errorf("--shard: %w", err)}
+		}
+	}
+	return o, nil
+}
+
+func runSweep(ctx context.Context, o sweepOptions, stdout, stderr io.Writer) error {
+	f, err := sweep.Load(o.file)
+	if err != nil {
+		return invalid{err}
+	}
+	prog := newProgress(stderr, o.quiet)
+	rep, err := sweep.Run(ctx, f, sweep.Options{Out: o.out, Jobs: o.jobs, Resume: o.resume, Shard: o.shard,
+		Write: o.write, Progress: prog.update})
+	prog.finish()
+	if err != nil {
+		return err
+	}
+	printReport(stdout, rep, o.shard)
+	return outcome(rep)
+}
+
+// outcome turns a finished run's report into the command's error: failed scenarios are
+// invalid input (status 2), infeasible legs status 3.
+func outcome(rep *sweep.Report) error {
+	err := rep.Err()
+	if errors.Is(err, sweep.ErrScenarioFailed) {
+		return invalid{err}
+	}
+	return err
+}
+
+func printReport(w io.Writer, rep *sweep.Report, shard sweep.Shard) {
+	what := fmt.Sprintf("%d scenarios", rep.Run)
+	if !shard.Whole() {
+		what = fmt.Sprintf("shard %s: %d of %d scenarios", shard, rep.Run, rep.Scenarios)
+	}
+	fmt.Fprintf(w, "sweep: %s: %d ok, %d with infeasible legs, %d failed", what, rep.OK, rep.Infeasible, rep.Failed)
+	if rep.Skipped > 0 {
+		fmt.Fprintf(w, " (%d unchanged, kept)", rep.Skipped)
+	}
+	fmt.Fprintln(w)
+	for i, r := range rep.Failures {
+		if i == 10 {
+			fmt.Fprintf(w, "  and %d more failed (see compare.md or each scenario's error.txt)\n", len(rep.Failures)-10)
+			break
+		}
+		fmt.Fprintf(w, "  failed %s: %s\n", r.ID, strings.ReplaceAll(r.Error, "\n", "; "))
+	}
+	fmt.Fprintf(w, "written: %s\n", strings.Join(rep.Files, ", "))
+	if !shard.Whole() {
+		fmt.Fprintln(w, "when every shard has run, join them with: spanwright merge DIR... --out DIR")
+	}
+}
+
+// invalid marks err as invalid input for exitCode, keeping its message.
+type invalid struct{ error }
+
+func (e invalid) Is(target error) bool { return target == errInvalid }
+func (e invalid) Unwrap() error        { return e.error }
+
+// progress shows a sweep's progress on stderr: a bar on a terminal, a line every
+// plainEvery otherwise, nothing when quiet.
+type progress struct {
+	w     io.Writer
+	quiet bool
+	tty   bool
+	start time.Time
+	last  time.Time
+	bar   *progressbar.ProgressBar
+	state sweep.Progress
+}
+
+// plainEvery is how often progress lines are printed when stderr is not a terminal.
+const plainEvery = 10 * time.Second
+
+func newProgress(w io.Writer, quiet bool) *progress {
+	p := &progress{w: w, quiet: quiet, start: time.Now()}
+	p.last = p.start
+	if f, ok := w.(*os.File); ok && term.IsTerminal(int(f.Fd())) {
+		p.tty = true
+	}
+	return p
+}
+
+func (p *progress) update(s sweep.Progress) {
+	p.state = s
+	if p.quiet {
+		return
+	}
+	if p.tty {
+		if p.bar == nil {
+			p.bar = progressbar.NewOptions(s.Total, progressbar.OptionSetWriter(p.w),
+				progressbar.OptionSetDescription("sweep"), progressbar.OptionShowCount(),
+				progressbar.OptionShowIts(), progressbar.OptionSetItsString("scenarios"),
+				progressbar.OptionSetPredictTime(true), progressbar.OptionThrottle(100*time.Millisecond),
+				progressbar.OptionClearOnFinish())
+		}
+		p.bar.Set(s.Done)
+		return
+	}
+	if now := time.Now(); now.Sub(p.last) >= plainEvery && s.Done < s.Total {
+		p.last = now
+		el := now.Sub(p.start).Seconds()
+		rate := float64(s.Done) / el
+		left := time.Duration(float64(s.Total-s.Done)/rate) * time.Second
+		fmt.Fprintf(p.w, "sweep: %d/%d scenarios, %.1f per second, about %s left\n", s.Done, s.Total, rate, left.Round(time.Second))
+	}
+}
+
+func (p *progress) finish() {
+	if p.quiet {
+		return
+	}
+	if p.bar != nil {
+		p.bar.Finish()
+	}
+	el := time.Since(p.start)
+	if p.state.Done > 0 {
+		fmt.Fprintf(p.w, "sweep: %d scenarios in %s, %.1f per second\n", p.state.Done, el.Round(time.Millisecond), float64(p.state.Done)/el.Seconds())
+	}
+}

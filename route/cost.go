@@ -1,0 +1,226 @@
+package route
+
+import (
+	"fmt"
+	"math"
+	"sort"
+
+	"spanwright/geo"
+	"spanwright/media"
+	"spanwright/media/install"
+	"spanwright/route/optimize"
+)
+
+// StandardStrandCounts are the fibre counts a required strand count rounds up to
+// (common practice, no published source).
+var StandardStrandCounts = []int{12, 24, 48, 72, 96, 144, 288}
+
+// CableStrands rounds required × (1 + growth) up to a standard cable count; beyond the
+// largest it rounds up to a multiple of the largest.
+func CableStrands(required int, growth float64) int {
+	n := int(math.Ceil(float64(required)*(1+growth) - 1e-9))
+	for _, c := range StandardStrandCounts {
+		if n <= c {
+			return c
+		}
+	}
+	big := StandardStrandCounts[len(StandardStrandCounts)-1]
+	return (n + big - 1) / big * big
+}
+
+// ConnectorPairs is the number of mated connector pairs in a backbone channel: one patch
+// panel at each end (ANSI/TIA-568.3-D channel model).
+const ConnectorPairs = 2
+
+// costModel prices a plan's pathways and media from the engine and its price book.
+type costModel struct {
+	eng    *media.Engine
+	prices *media.PriceBook
+	design Design
+	// labourPerM holds installation labour in cents per metre of one cable, by pathway type.
+	labourPerM map[string]int64
+}
+
+// newCostModel reads the labour rates the plan needs; a missing rate is an error naming its key.
+func newCostModel(eng *media.Engine, d Design) (*costModel, error) {
+	p := eng.PriceBook()
+	m := &costModel{eng: eng, prices: p, design: d, labourPerM: map[string]int64{}}
+	hour, ok := p.Price(media.PriceKey{Item: media.PriceLabourHour})
+	var missing []string
+	if !ok {
+		missing = append(missing, media.PriceKey{Item: media.PriceLabourHour}.Path())
+	}
+	for _, t := range []string{geo.TypeDuct, geo.TypeTunnel, geo.TypeAerial, geo.TypeBuried, geo.TypeTray} {
+		k := media.PriceKey{Item: media.RatePull, Name: t}
+		rate, ok := p.Rate(k)
+		if !ok || rate <= 0 {
+			missing = append(missing, k.Path())
+			continue
+		}
+		m.labourPerM[t] = int64(math.Round(float64(hour) / rate))
+	}
+	if len(missing) > 0 {
+		return nil, fmt.Errorf("%s: %w: %v", p.File, media.ErrMissingPrice, missing)
+	}
+	return m, nil
+}
+
+// surfaceOf is the surface priced for new work on a span: its own, else turf.
+func surfaceOf(sp *geo.Span) string {
+	if sp.Surface != "" {
+		return sp.Surface
+	}
+	return geo.SurfaceTurf
+}
+
+// trenchPerMCents is new trench with restoration on the span's surface, per metre.
+func (m *costModel) trenchPerMCents(sp *geo.Span) (int64, error) {
+	s := surfaceOf(sp)
+	t, ok1 := m.prices.Price(media.PriceKey{Item: media.PriceTrench, Name: s})
+	r, ok2 := m.prices.Price(media.PriceKey{Item: media.PriceRestoration, Name: s})
+	if !ok1 || !ok2 {
+		return 0, fmt.Errorf("%s: %w: %s and %s", m.prices.File, media.ErrMissingPrice,
+			media.PriceKey{Item: media.PriceTrench, Name: s}.Path(), media.PriceKey{Item: media.PriceRestoration, Name: s}.Path())
+	}
+	return t + r, nil
+}
+
+// problem builds the optimizer's problem: one edge per span (same index), one demand per link.
+func (s *Site) problem(m *costModel, links []Link) (*optimize.Problem, []demandInfo, error) {
+	net := s.Net
+	groups := map[string]int{}
+	var names []string
+	for _, sp := range net.Spans {
+		if _, ok := groups[sp.Group]; !ok && sp.Group != "" {
+			groups[sp.Group] = 0
+			names = append(names, sp.Group)
+		}
+	}
+	sort.Strings(names)
+	for i, n := range names {
+		groups[n] = i + 1
+	}
+	addDuct, _ := m.prices.Price(media.PriceKey{Item: media.PriceAddedDuct})
+	p := &optimize.Problem{Nodes: len(net.Junctions), AllowNew: m.design.AllowNewTrench,
+		Edges: make([]optimize.Edge, len(net.Spans))}
+	// Duct fill under NFPA 70 Chapter 9 Table 1, cables packed into the spare ducts first-fit.
+	p.Fits = func(edge int, ods []float64, ducts int) bool {
+		return install.DuctBank{Ducts: ducts, IDMM: p.Edges[edge].DuctIDMM}.Assign(ods).OK
+	}
+	for i := range net.Spans {
+		sp := &net.Spans[i]
+		u, _ := s.Graph.NodeOf(sp.From)
+		v, _ := s.Graph.NodeOf(sp.To)
+		e := optimize.Edge{ID: sp.ID, From: int(u), To: int(v), LengthM: sp.LengthM,
+			LabourPerMCents: m.labourPerM[sp.Type], Group: groups[sp.Group]}
+		if sp.EMI == geo.EMIHigh {
+			e.Flags |= optimize.FlagHighEMI
+		}
+		if sp.Type != geo.TypeTray {
+			e.Flags |= optimize.FlagOutdoor
+		}
+		trench, err := m.trenchPerMCents(sp)
+		if sp.Status == geo.StatusProposed {
+			if err != nil {
+				return nil, nil, err
+			}
+			perM := trench
+			if sp.Type == geo.TypeDuct {
+				perM += addDuct
+			}
+			e.Proposed, e.FixedCents = true, media.MulCents(perM, sp.LengthM)
+		} else if sp.Type == geo.TypeDuct {
+			e.Ducts, e.DuctIDMM = sp.SpareDucts, sp.DuctMM
+			if err == nil && addDuct > 0 {
+				e.AddDuctPerMCents = trench + addDuct
+			}
+		}
+		p.Edges[i] = e
+	}
+	infos := make([]demandInfo, len(links))
+	for i := range links {
+		d, info := s.demand(m, &links[i])
+		p.Demands = append(p.Demands, d)
+		infos[i] = info
+	}
+	return p, infos, nil
+}
+
+// demandInfo is what the pipeline keeps about a link's demand to cost and explain its legs.
+type demandInfo struct {
+	facts    media.Link // route-independent facts; RouteM and the route facts are filled per leg
+	rate     float64
+	strands  int // cable strands after growth and rounding
+	constM   float64
+	options  []string
+	excluded []string // media left out before routing, with why
+}
+
+// demand turns a link into the optimizer's demand with one option per medium that can carry it.
+func (s *Site) demand(m *costModel, l *Link) (optimize.Demand, demandInfo) {
+	src, dst := s.access[l.To], s.access[l.From]
+	srcN, _ := s.Graph.NodeOf(src.Junction)
+	dstN, _ := s.Graph.NodeOf(dst.Junction)
+	rate, _ := m.eng.Catalog().ParseRate(l.Rate)
+	future := 0.0
+	if l.FutureRate != "" {
+		future, _ = m.eng.Catalog().ParseRate(l.FutureRate)
+	}
+	strands := CableStrands(l.Strands, l.Growth)
+	riser := s.building[l.To].RiserM + s.building[l.From].RiserM
+	lateral := src.LateralM + dst.LateralM
+	slack := 2 * m.design.SlackM
+	facts := media.Link{ID: l.ID, RiserM: riser, SlackM: slack, RateGbps: rate, FutureRateGbps: future,
+		MaxEMI: geo.EMINone, ConnectorPairs: ConnectorPairs, Strands: strands}
+	info := demandInfo{facts: facts, rate: rate, strands: strands, constM: riser + lateral + slack}
+	d := optimize.Demand{ID: l.ID, Source: int(srcN), Target: int(dstN), Diverse: l.Diverse}
+	for _, med := range m.eng.Media() {
+		mm := m.eng.Catalog().Medium(med)
+		copper := !mm.Fibre()
+		var exclude uint64
+		if copper {
+			exclude |= optimize.FlagHighEMI
+			if !m.design.AllowOutdoorCopper {
+				if lateral > 0 {
+					info.excluded = append(info.excluded, med+": the route leaves a building over a lateral")
+					continue
+				}
+				exclude |= optimize.FlagOutdoor
+			}
+		}
+		maxCh := m.eng.MaxChannelM(med, rate, future, facts)
+		maxRoute := maxCh - riser - slack - lateral
+		perM := m.eng.CablePerMCents(med, strands, true)
+		fixed := m.eng.FixedCents(med, rate, strands)
+		if maxRoute <= 0 || perM < 0 || fixed < 0 {
+			info.excluded = append(info.excluded, fmt.Sprintf("%s: reaches at most %.1f m of channel", med, maxCh))
+			continue
+		}
+		// Route-independent lengths (risers, laterals, slack) cost the same whatever the path.
+		fixed += media.MulCents(perM, riser+lateral+slack) + media.MulCents(m.labourPerM[geo.TypeTray], riser) +
+			media.MulCents(m.labourPerM[geo.TypeBuried], lateral)
+		d.Options = append(d.Options, optimize.Option{Name: med, CablePerMCents: perM, FixedCents: fixed,
+			MaxRouteM: maxRoute, ExcludeFlags: exclude, CableODMM: cableOD(mm, strands)})
+		info.options = append(info.options, med)
+	}
+	return d, info
+}
+
+// cableOD is the outside diameter in millimetres of the outdoor-rated cable of the medium
+// for the strands, or of its first construction when none is outdoor-rated.
+func cableOD(m *media.Medium, strands int) float64 {
+	if m.Kind == media.KindCopper {
+		strands = (strands + 1) / 2
+	}
+	for _, k := range m.Constructions {
+		if k.OutdoorRated {
+			size, _ := k.Fit(strands)
+			return size.ODMM
+		}
+	}
+	if len(m.Constructions) > 0 {
+		size, _ := m.Constructions[0].Fit(strands)
+		return size.ODMM
+	}
+	return 0
+}
