@@ -5,6 +5,7 @@ import (
 	"math"
 	"sort"
 	"strings"
+	"sync"
 )
 
 // Rule ids of Rejections that no rule file defines.
@@ -34,6 +35,8 @@ type Engine struct {
 	// breakpoints are the positive numbers in the rule conditions: candidate channel lengths
 	// at which feasibility may change, for MaxChannelM.
 	breakpoints []float64
+	// maxMemo caches MaxChannelM by maxKey: plans and sweeps ask the same question often.
+	maxMemo sync.Map
 }
 
 // NewEngine checks that the rules, catalog and price book fit together and returns the
@@ -161,7 +164,6 @@ type candidate struct {
 	f          [nFacts]value
 	failed     int    // index of the first rule failed, -1 when none
 	nFailed    int    // how many rules it fails
-	why        string // the first failed rule's rendered reason
 	prefer     []bool // per prefer rule, in rule order
 	costCents  int64
 	cableCents int64 // the cable part of costCents
@@ -253,8 +255,7 @@ func (e *Engine) evaluate(l Link, mi, ai, ki int) *candidate {
 		// report the construction that came closest (fewest failures).
 		c.nFailed++
 		if c.failed < 0 {
-			c.failed = ri
-			c.why = rule.reason.render(f[:])
+			c.failed = ri // its reason is rendered only when a rejection reports it
 		}
 	}
 	if c.failed < 0 {
@@ -495,7 +496,7 @@ func (e *Engine) rejections(l Link, m *Medium, mi int, all, ok []*candidate, win
 		}
 		rule := e.rules.Rules[pick.failed]
 		out = append(out, Rejection{Medium: m.ID, Rule: rule.ID,
-			Reason: fmt.Sprintf("%s rejected by %s: %s", m.ID, rule.ID, pick.why)})
+			Reason: fmt.Sprintf("%s rejected by %s: %s", m.ID, rule.ID, rule.reason.render(pick.f[:]))})
 	}
 	if len(out) == 0 {
 		out = append(out, Rejection{Medium: m.ID, Rule: RuleNoApplication,
@@ -580,6 +581,28 @@ func (e *Engine) feasibleAt(l Link, mi int, channelM float64) bool {
 // exceeds the longest operating range of an application at the rate on the medium. It
 // returns 0 when the medium never carries the rate for such a link, or is unknown.
 func (e *Engine) MaxChannelM(medium string, rateGbps, futureRateGbps float64, l Link) float64 {
+	k := maxKey{medium: medium, rate: rateGbps, future: futureRateGbps, riser: l.RiserM, slack: l.SlackM,
+		emi: l.MaxEMI, outdoor: l.Outdoor, types: strings.Join(l.PathwayTypes, ","), pairs: l.ConnectorPairs,
+		splices: l.Splices, strands: l.Strands}
+	if v, ok := e.maxMemo.Load(k); ok {
+		return v.(float64)
+	}
+	v := e.maxChannelM(medium, rateGbps, futureRateGbps, l)
+	e.maxMemo.Store(k, v)
+	return v
+}
+
+// maxKey is what MaxChannelM's answer depends on.
+type maxKey struct {
+	medium                     string
+	rate, future, riser, slack float64
+	emi                        string
+	outdoor                    bool
+	types                      string
+	pairs, splices, strands    int
+}
+
+func (e *Engine) maxChannelM(medium string, rateGbps, futureRateGbps float64, l Link) float64 {
 	mi := -1
 	for i, m := range e.cat.Media {
 		if m.ID == medium {

@@ -7,7 +7,6 @@ import (
 
 	"spanwright/geo"
 	"spanwright/media"
-	"spanwright/media/install"
 	"spanwright/route/optimize"
 )
 
@@ -103,10 +102,7 @@ func (s *Site) problem(m *costModel, links []Link) (*optimize.Problem, []demandI
 	addDuct, _ := m.prices.Price(media.PriceKey{Item: media.PriceAddedDuct})
 	p := &optimize.Problem{Nodes: len(net.Junctions), AllowNew: m.design.AllowNewTrench,
 		Edges: make([]optimize.Edge, len(net.Spans))}
-	// Duct fill under NFPA 70 Chapter 9 Table 1, cables packed into the spare ducts first-fit.
-	p.Fits = func(edge int, ods []float64, ducts int) bool {
-		return install.DuctBank{Ducts: ducts, IDMM: p.Edges[edge].DuctIDMM}.Assign(ods).OK
-	}
+	// Duct fill: the optimizer's incremental NFPA 70 Chapter 9 Table 1 packing (nil Fits).
 	for i := range net.Spans {
 		sp := &net.Spans[i]
 		u, _ := s.Graph.NodeOf(sp.From)
