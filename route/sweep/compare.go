@@ -1,0 +1,468 @@
+package sweep
+
+import (
+	"bytes"
+	"encoding/csv"
+	"fmt"
+	"math"
+	"sort"
+	"strconv"
+	"strings"
+
+	"spanwright/route"
+	"spanwright/route/workbook"
+)
+
+// Comparison file names.
+const (
+	CompareCSV  = "compare.csv"
+	CompareXLSX = "compare.xlsx"
+	CompareMD   = "compare.md"
+)
+
+// judged is a row with what the comparison works out across rows.
+type judged struct {
+	*Row
+	rank   int  // 1 for the cheapest ok scenario; 0 when not ranked
+	pareto bool // not dominated; only ok scenarios are judged
+}
+
+// judge ranks the ok rows by total cost (equal costs share a rank, the next rank skips:
+// 1, 2, 2, 4) and flags those no other ok row dominates on (total cost lower is better,
+// worst loss margin higher is better, links missing a diverse route fewer is better). A
+// scenario without fibre legs has no loss margin to lose and counts as the best margin.
+// Infeasible and failed scenarios get neither a rank nor a flag: their costs leave out the
+// links they could not serve.
+func judge(rows []Row) []judged {
+	out := make([]judged, len(rows))
+	var ok []int
+	for i := range rows {
+		out[i].Row = &rows[i]
+		if rows[i].Status == StatusOK {
+			ok = append(ok, i)
+		}
+	}
+	byCost := append([]int(nil), ok...)
+	sort.SliceStable(byCost, func(a, b int) bool { return rows[byCost[a]].TotalCents < rows[byCost[b]].TotalCents })
+	for k, i := range byCost {
+		if k > 0 && rows[i].TotalCents == rows[byCost[k-1]].TotalCents {
+			out[i].rank = out[byCost[k-1]].rank
+		} else {
+			out[i].rank = k + 1
+		}
+	}
+	margin := func(i int) float64 {
+		if m := rows[i].WorstMarginDB; m != nil {
+			return *m
+		}
+		return math.Inf(1)
+	}
+	// Sorted by cost, then missing diverse links, then margin (best first), any row that
+	// dominates another comes before it; best[m] is the best margin seen among earlier
+	// rows with m missing diverse links.
+	order := append([]int(nil), ok...)
+	sort.SliceStable(order, func(a, b int) bool {
+		x, y := order[a], order[b]
+		if rows[x].TotalCents != rows[y].TotalCents {
+			return rows[x].TotalCents < rows[y].TotalCents
+		}
+		if rows[x].DiverseMissing != rows[y].DiverseMissing {
+			return rows[x].DiverseMissing < rows[y].DiverseMissing
+		}
+		return margin(x) > margin(y)
+	})
+	best := map[int]float64{}
+	var missing []int // keys of best, sorted
+	for g := 0; g < len(order); {
+		// A group of identical points: none dominates another.
+		h := g + 1
+		for h < len(order) && same(rows, order[g], order[h], margin) {
+			h++
+		}
+		i := order[g]
+		dominated := false
+		for _, m := range missing {
+			if m > rows[i].DiverseMissing {
+				break
+			}
+			if best[m] >= margin(i) {
+				dominated = true
+				break
+			}
+		}
+		for _, j := range order[g:h] {
+			out[j].pareto = !dominated
+		}
+		m := rows[i].DiverseMissing
+		if b, seen := best[m]; !seen || margin(i) > b {
+			if !seen {
+				missing = append(missing, m)
+				sort.Ints(missing)
+			}
+			best[m] = margin(i)
+		}
+		g = h
+	}
+	return out
+}
+
+func same(rows []Row, a, b int, margin func(int) float64) bool {
+	return rows[a].TotalCents == rows[b].TotalCents && rows[a].DiverseMissing == rows[b].DiverseMissing && margin(a) == margin(b)
+}
+
+// money formats cents with two decimals: 1234567 is "12345.67".
+func money(c int64) string {
+	sign := ""
+	if c < 0 {
+		sign, c = "-", -c
+	}
+	return fmt.Sprintf("%s%d.%02d", sign, c/100, c%100)
+}
+
+// column is one fixed column of the comparison.
+type column struct {
+	csv   string // CSV header, unit in the name
+	human string // XLSX and Markdown header, without the unit
+	unit  string // "" for none; "$currency" for the sweep's currency
+	text  func(j judged) string
+	cell  func(j judged) workbook.Cell
+}
+
+func planned(j judged) bool { return j.Status != StatusFailed }
+
+func moneyCol(csvName, human string, get func(*Row) int64, when func(judged) bool) column {
+	return column{csvName, human, "$currency",
+		func(j judged) string {
+			if !when(j) {
+				return ""
+			}
+			return money(get(j.Row))
+		},
+		func(j judged) workbook.Cell {
+			if !when(j) {
+				return workbook.Blank()
+			}
+			return workbook.Cents(get(j.Row))
+		}}
+}
+
+func intCol(csvName, human string, get func(*Row) int) column {
+	return column{csvName, human, "",
+		func(j judged) string {
+			if !planned(j) {
+				return ""
+			}
+			return strconv.Itoa(get(j.Row))
+		},
+		func(j judged) workbook.Cell {
+			if !planned(j) {
+				return workbook.Blank()
+			}
+			return workbook.Int(int64(get(j.Row)))
+		}}
+}
+
+func textCol(csvName, human string, get func(judged) string) column {
+	return column{csvName, human, "", get, func(j judged) workbook.Cell {
+		if s := get(j); s != "" {
+			return workbook.Text(s)
+		}
+		return workbook.Blank()
+	}}
+}
+
+func hasBudget(j judged) bool { return planned(j) && j.BudgetCents > 0 }
+
+// fixedColumns are the comparison's columns after the override columns.
+var fixedColumns = []column{
+	textCol("status", "status", func(j judged) string { return j.Status }),
+	textCol("currency", "currency", func(j judged) string { return j.Currency }),
+	moneyCol("total_cost", "total cost", func(r *Row) int64 { return r.TotalCents }, planned),
+	moneyCol("plan_budget", "budget", func(r *Row) int64 { return r.BudgetCents }, hasBudget),
+	moneyCol("over_budget", "over budget", func(r *Row) int64 { return r.OverBudgetCents }, hasBudget),
+	intCol("infeasible_legs", "infeasible legs", func(r *Row) int { return r.InfeasibleLegs }),
+	{"worst_margin_db", "worst loss margin", "dB",
+		func(j judged) string {
+			if !planned(j) || j.WorstMarginDB == nil {
+				return ""
+			}
+			return strconv.FormatFloat(*j.WorstMarginDB, 'f', 2, 64)
+		},
+		func(j judged) workbook.Cell {
+			if !planned(j) || j.WorstMarginDB == nil {
+				return workbook.Blank()
+			}
+			return workbook.Number(*j.WorstMarginDB, 2)
+		}},
+	{"new_trench_m", "new trench", "m",
+		func(j judged) string {
+			if !planned(j) {
+				return ""
+			}
+			return strconv.FormatFloat(j.NewTrenchM, 'f', 1, 64)
+		},
+		func(j judged) workbook.Cell {
+			if !planned(j) {
+				return workbook.Blank()
+			}
+			return workbook.Number(j.NewTrenchM, 1)
+		}},
+	intCol("diverse_links", "diverse links", func(r *Row) int { return r.DiverseLinks }),
+	intCol("diverse_missing", "links lacking a diverse route", func(r *Row) int { return r.DiverseMissing }),
+	textCol("media_mix", "media (legs per medium)", func(j judged) string { return j.MediaMix }),
+	{"cost_rank", "rank by cost", "",
+		func(j judged) string {
+			if j.rank == 0 {
+				return ""
+			}
+			return strconv.Itoa(j.rank)
+		},
+		func(j judged) workbook.Cell {
+			if j.rank == 0 {
+				return workbook.Blank()
+			}
+			return workbook.Int(int64(j.rank))
+		}},
+	{"pareto", "pareto optimal", "",
+		func(j judged) string {
+			switch {
+			case j.Status != StatusOK:
+				return ""
+			case j.pareto:
+				return "yes"
+			}
+			return "no"
+		},
+		func(j judged) workbook.Cell {
+			if j.Status != StatusOK {
+				return workbook.Blank()
+			}
+			return workbook.Bool(j.pareto)
+		}},
+	intCol("warnings", "warnings", func(r *Row) int { return r.Warnings }),
+	textCol("error", "error", func(j judged) string { return oneLine(j.Error) }),
+}
+
+func oneLine(s string) string { return strings.ReplaceAll(strings.TrimSpace(s), "\n", "; ") }
+
+// currencyOf returns the currency every planned row shares, or "" when they differ or give none.
+func currencyOf(rows []Row) string {
+	cur := ""
+	for _, r := range rows {
+		if r.Status == StatusFailed || r.Currency == "" {
+			continue
+		}
+		if cur != "" && r.Currency != cur {
+			return ""
+		}
+		cur = r.Currency
+	}
+	return cur
+}
+
+// Compare renders the comparison of rows (every scenario of a sweep, in index order) as the
+// files compare.csv, compare.xlsx and compare.md. keys are the override keys, one column
+// each, in order.
+//
+// compare.csv has a header line, then one line per scenario: index (0-based), id, case, one
+// column per override key (empty where the scenario keeps the base plan's value), status
+// (ok, infeasible, failed), currency, total_cost, plan_budget and over_budget (currency units
+// with two decimals; budget columns empty without a budget), infeasible_legs,
+// worst_margin_db (two decimals, empty without fibre legs), new_trench_m (one decimal),
+// diverse_links, diverse_missing, media_mix ("medium:legs" pairs), cost_rank, pareto
+// (yes/no), warnings and error. compare.xlsx holds the same table, numbers as numbers, with a
+// second sheet of totals as formulas; compare.md the same as a Markdown table.
+func Compare(rows []Row, keys []string) ([]route.OutputFile, error) {
+	js := judge(rows)
+	cur := currencyOf(rows)
+	csvData, err := compareCSV(js, keys)
+	if err != nil {
+		return nil, err
+	}
+	xlsx, err := compareXLSX(js, keys, cur)
+	if err != nil {
+		return nil, err
+	}
+	md := compareMD(js, keys, cur)
+	return []route.OutputFile{
+		{Name: CompareCSV, Data: csvData},
+		{Name: CompareMD, Data: md},
+		{Name: CompareXLSX, Data: xlsx},
+	}, nil
+}
+
+func compareCSV(js []judged, keys []string) ([]byte, error) {
+	var b bytes.Buffer
+	w := csv.NewWriter(&b)
+	head := append([]string{"index", "id", "case"}, keys...)
+	for _, c := range fixedColumns {
+		head = append(head, c.csv)
+	}
+	w.Write(head)
+	for _, j := range js {
+		rec := []string{strconv.Itoa(j.Index), j.ID, j.Case}
+		for _, k := range keys {
+			rec = append(rec, j.value(k))
+		}
+		for _, c := range fixedColumns {
+			rec = append(rec, c.text(j))
+		}
+		w.Write(rec)
+	}
+	w.Flush()
+	return b.Bytes(), w.Error()
+}
+
+func unitOf(c column, cur string) string {
+	if c.unit == "$currency" {
+		return cur
+	}
+	return c.unit
+}
+
+func compareXLSX(js []judged, keys []string, cur string) ([]byte, error) {
+	wb := workbook.New()
+	cols := []workbook.Column{{Name: "index"}, {Name: "id"}, {Name: "case"}}
+	for _, k := range keys {
+		cols = append(cols, workbook.Column{Name: k})
+	}
+	first := len(cols)
+	for _, c := range fixedColumns {
+		cols = append(cols, workbook.Column{Name: c.human, Unit: unitOf(c, cur)})
+	}
+	sh := wb.AddSheet("scenarios", cols...)
+	sh.Filter = true
+	for _, j := range js {
+		cells := []workbook.Cell{workbook.Int(int64(j.Index)), workbook.Text(j.ID), textOrBlank(j.Case)}
+		for _, k := range keys {
+			cells = append(cells, textOrBlank(j.value(k)))
+		}
+		for _, c := range fixedColumns {
+			cells = append(cells, c.cell(j))
+		}
+		sh.Append(cells...)
+	}
+	col := func(csvName string) string {
+		for i, c := range fixedColumns {
+			if c.csv == csvName {
+				return sh.Range(first + i)
+			}
+		}
+		panic("sweep: no column " + csvName)
+	}
+	tot := wb.AddSheet("totals", workbook.Column{Name: "what"}, workbook.Column{Name: "value"})
+	status := col("status")
+	tot.Append(workbook.Text("scenarios"), workbook.Formula("COUNTA("+sh.Range(1)+")", 0))
+	tot.Append(workbook.Text("ok"), workbook.Formula("COUNTIF("+status+",\"ok\")", 0))
+	tot.Append(workbook.Text("with infeasible legs"), workbook.Formula("COUNTIF("+status+",\"infeasible\")", 0))
+	tot.Append(workbook.Text("failed"), workbook.Formula("COUNTIF("+status+",\"failed\")", 0))
+	tot.Append(workbook.Text("pareto optimal"), workbook.Formula("COUNTIF("+col("pareto")+",TRUE)", 0))
+	// The cheapest and dearest ok scenarios are those ranked first and last; INDEX and MATCH
+	// work in every spreadsheet program, unlike the newer conditional MIN and MAX.
+	cost, rank := col("total_cost"), col("cost_rank")
+	tot.Append(workbook.Text("lowest total cost of an ok scenario"+unitSuffix(cur)),
+		workbook.Formula("IFERROR(INDEX("+cost+",MATCH(1,"+rank+",0)),\"\")", 2))
+	tot.Append(workbook.Text("highest total cost of an ok scenario"+unitSuffix(cur)),
+		workbook.Formula("IFERROR(INDEX("+cost+",MATCH(MAX("+rank+"),"+rank+",0)),\"\")", 2))
+	return wb.Bytes()
+}
+
+func unitSuffix(cur string) string {
+	if cur == "" {
+		return ""
+	}
+	return " (" + cur + ")"
+}
+
+func textOrBlank(s string) workbook.Cell {
+	if s == "" {
+		return workbook.Blank()
+	}
+	return workbook.Text(s)
+}
+
+func compareMD(js []judged, keys []string, cur string) []byte {
+	var b bytes.Buffer
+	var ok, inf, failed int
+	var front []string
+	for _, j := range js {
+		switch j.Status {
+		case StatusOK:
+			ok++
+		case StatusInfeasible:
+			inf++
+		default:
+			failed++
+		}
+		if j.pareto {
+			front = append(front, "`"+j.ID+"`")
+		}
+	}
+	fmt.Fprintf(&b, "# Sweep comparison\n\n")
+	fmt.Fprintf(&b, "%d scenarios: %d ok, %d with infeasible legs, %d failed.", len(js), ok, inf, failed)
+	if cur != "" {
+		fmt.Fprintf(&b, " Money in %s.", cur)
+	}
+	fmt.Fprintf(&b, "\nRank and Pareto flag consider only ok scenarios (every leg feasible); Pareto over total cost,\n")
+	fmt.Fprintf(&b, "worst loss margin (higher is better) and links lacking a diverse route.\n\n")
+	if len(front) > 0 {
+		fmt.Fprintf(&b, "Pareto optimal: %s.\n\n", strings.Join(front, ", "))
+	}
+	head := append([]string{"#", "id", "case"}, keys...)
+	align := []string{"--:", "---", "---"}
+	for range keys {
+		align = append(align, "---")
+	}
+	var cols []column
+	for _, c := range fixedColumns {
+		if c.csv == "error" || c.csv == "currency" {
+			continue // failures are listed below the table; the currency is said above
+		}
+		cols = append(cols, c)
+		h := c.human
+		if u := unitOf(c, cur); u != "" {
+			h += " (" + u + ")"
+		}
+		head = append(head, h)
+		if c.csv == "status" || c.csv == "media_mix" || c.csv == "pareto" {
+			align = append(align, "---")
+		} else {
+			align = append(align, "--:")
+		}
+	}
+	mdRow(&b, head)
+	mdRow(&b, align)
+	for _, j := range js {
+		rec := []string{strconv.Itoa(j.Index), "`" + j.ID + "`", j.Case}
+		for _, k := range keys {
+			rec = append(rec, j.value(k))
+		}
+		for _, c := range cols {
+			rec = append(rec, c.text(j))
+		}
+		mdRow(&b, rec)
+	}
+	if failed > 0 {
+		fmt.Fprintf(&b, "\n## Failed scenarios\n\n")
+		for _, j := range js {
+			if j.Status == StatusFailed {
+				fmt.Fprintf(&b, "- `%s`: %s\n", j.ID, mdEscape(oneLine(j.Error)))
+			}
+		}
+	}
+	return b.Bytes()
+}
+
+func mdRow(b *bytes.Buffer, cells []string) {
+	b.WriteString("|")
+	for _, c := range cells {
+		b.WriteString(" ")
+		b.WriteString(mdEscape(c))
+		b.WriteString(" |")
+	}
+	b.WriteString("\n")
+}
+
+func mdEscape(s string) string {
+	return strings.NewReplacer("|", `\|`, "\n", " ").Replace(s)
+}

@@ -1,0 +1,129 @@
+package sweep
+
+import (
+	"errors"
+	"fmt"
+	"path/filepath"
+	"reflect"
+	"strings"
+
+	"spanwright/route"
+)
+
+// ErrMerge is wrapped by Merge's error when the rows files given do not make one whole sweep.
+var ErrMerge = errors.New("merge")
+
+// Merge joins the rows files found in dirs (each the output folder of one or more shards of a
+// sweep, or of a whole sweep) into one comparison written to out: the same compare.csv,
+// compare.xlsx, compare.md and rows.jsonl, byte for byte, as the unsharded sweep writes.
+// Scenario folders stay where the shards wrote them. It fails, writing nothing, when the rows
+// come from different sweeps, when two rows files disagree about a scenario, or when a
+// scenario is missing (naming the missing indexes and the shards that hold them).
+func Merge(dirs []string, out string) (*Report, error) {
+	var (
+		head  *rowsHeader
+		from  string
+		rows  []Row
+		where []string
+	)
+	var errs []string
+	nfiles := 0
+	for _, d := range dirs {
+		files, err := findRows(d)
+		if err != nil {
+			return nil, fmt.Errorf("merge: %w", err)
+		}
+		if len(files) == 0 {
+			errs = append(errs, fmt.Sprintf("%s: no rows file (rows.jsonl or rows-I-of-N.jsonl); is it a sweep output folder?", d))
+			continue
+		}
+		for _, path := range files {
+			h, rs, err := readRows(path)
+			if err != nil {
+				errs = append(errs, err.Error())
+				continue
+			}
+			nfiles++
+			if head == nil {
+				hh := h
+				hh.Shard = ""
+				head, from = &hh, path
+				rows = make([]Row, h.Scenarios)
+				where = make([]string, h.Scenarios)
+			} else if h.Sweep != head.Sweep || h.Scenarios != head.Scenarios || !reflect.DeepEqual(h.Keys, head.Keys) {
+				errs = append(errs, fmt.Sprintf("%s: rows of another sweep than %s (%d scenarios, sweep %.12s, against %d, %.12s)",
+					path, from, h.Scenarios, h.Sweep, head.Scenarios, head.Sweep))
+				continue
+			}
+			for _, r := range rs {
+				if where[r.Index] == "" {
+					rows[r.Index], where[r.Index] = r, path
+					continue
+				}
+				if !reflect.DeepEqual(rows[r.Index], r) {
+					errs = append(errs, fmt.Sprintf("%s: scenario %d (%s) differs from its row in %s; re-run one of them",
+						path, r.Index, r.ID, where[r.Index]))
+				}
+			}
+		}
+	}
+	if len(errs) == 0 && head == nil {
+		errs = append(errs, "no rows files found")
+	}
+	if len(errs) == 0 {
+		var missing []int
+		for i, w := range where {
+			if w == "" {
+				missing = append(missing, i)
+			}
+		}
+		if len(missing) > 0 {
+			errs = append(errs, fmt.Sprintf("%d of %d scenarios missing: %s", len(missing), head.Scenarios, missingText(missing)))
+		}
+	}
+	if len(errs) > 0 {
+		return nil, fmt.Errorf("%w: %s", ErrMerge, strings.Join(errs, "\n"))
+	}
+	files, err := renderRun(*head, rows, Shard{})
+	if err != nil {
+		return nil, err
+	}
+	protect := make([]string, 0, nfiles)
+	for _, d := range dirs {
+		if fs, err := findRows(d); err == nil {
+			protect = append(protect, fs...)
+		}
+	}
+	// Merging into one of the shard folders replaces its rows.jsonl, which was read above.
+	kept := protect[:0]
+	for _, p := range protect {
+		if filepath.Clean(p) != filepath.Join(filepath.Clean(out), RowsFile) {
+			kept = append(kept, p)
+		}
+	}
+	if err := route.WriteFiles(out, files, kept); err != nil {
+		return nil, err
+	}
+	rep := &Report{Scenarios: head.Scenarios, Run: head.Scenarios}
+	for _, r := range rows {
+		rep.count(r)
+	}
+	for _, f := range files {
+		rep.Files = append(rep.Files, filepath.Join(out, f.Name))
+	}
+	return rep, nil
+}
+
+// missingText lists missing scenario indexes, with the shard of n that holds each for the
+// first few values of n, to tell which array task to run again.
+func missingText(missing []int) string {
+	var parts []string
+	for i, m := range missing {
+		if i == 10 {
+			parts = append(parts, fmt.Sprintf("and %d more", len(missing)-10))
+			break
+		}
+		parts = append(parts, fmt.Sprintf("#%d", m))
+	}
+	return strings.Join(parts, ", ") + " (scenario #k is in shard k mod n + 1 of n)"
+}

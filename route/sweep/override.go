@@ -1,0 +1,351 @@
+package sweep
+
+import (
+	"bytes"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"path/filepath"
+	"reflect"
+	"sort"
+	"strings"
+	"sync"
+
+	"go.yaml.in/yaml/v3"
+
+	"spanwright/route"
+)
+
+// pathKeys are the plan settings that name files; in a sweep file their values are relative
+// to the sweep file's folder.
+var pathKeys = map[string]bool{"campus": true, "catalog": true, "rules": true, "prices": true}
+
+// setting is one plan setting a sweep can override.
+type setting struct {
+	typ  reflect.Type
+	path bool // a file name (campus: one or a list)
+}
+
+// settings returns the overridable plan settings by dotted key: every top-level key of
+// route.Plan except links, and every key of its nested sections (defaults.*, design.*). It is
+// read from route.Plan's YAML tags, so a setting the plan gains can be varied at once.
+var settings = sync.OnceValue(func() map[string]setting {
+	out := map[string]setting{}
+	moneyT := reflect.TypeOf(route.Money(0))
+	t := reflect.TypeOf(route.Plan{})
+	for i := 0; i < t.NumField(); i++ {
+		f := t.Field(i)
+		key := yamlKey(f)
+		if key == "" {
+			continue
+		}
+		if f.Type.Kind() == reflect.Struct && f.Type != moneyT {
+			for j := 0; j < f.Type.NumField(); j++ {
+				g := f.Type.Field(j)
+				if sub := yamlKey(g); sub != "" {
+					out[key+"."+sub] = setting{typ: g.Type}
+				}
+			}
+			continue
+		}
+		if f.Type.Kind() == reflect.Slice && f.Type.Elem().Kind() == reflect.Struct {
+			continue // the links list: a plan of its own, not a setting
+		}
+		out[key] = setting{typ: f.Type, path: pathKeys[key]}
+	}
+	return out
+})
+
+func yamlKey(f reflect.StructField) string {
+	tag, ok := f.Tag.Lookup("yaml")
+	if !ok || !f.IsExported() {
+		return ""
+	}
+	name, _, _ := strings.Cut(tag, ",")
+	if name == "-" {
+		return ""
+	}
+	return name
+}
+
+// keyList lists the overridable keys, sorted, for messages.
+func keyList() string {
+	keys := make([]string, 0, len(settings()))
+	for k := range settings() {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	return strings.Join(keys, ", ")
+}
+
+// Override is one plan setting a scenario changes.
+type Override struct {
+	Key   string // dotted plan key, e.g. "defaults.rate"
+	Value string // the value as shown in the comparison: the text written, "~" for null
+	Line  int    // line of the value in the sweep file
+	// canon is the value decoded into the setting's type and encoded as JSON ("null" for
+	// null); paths are cleaned and use forward slashes, as written (relative to the sweep
+	// file's folder).
+	canon string
+	node  *yaml.Node
+	set   setting
+}
+
+// parseOverride checks one key and value of the sweep file.
+func parseOverride(key string, v *yaml.Node) (Override, error) {
+	st, ok := settings()[key]
+	if !ok {
+		hint := ""
+		if key == "links" || strings.HasPrefix(key, "links.") {
+			hint = "; the links list cannot be varied: write another plan and use it as base"
+		}
+		return Override{}, fmt.Errorf("%w; want one of %s%s", ErrUnknownKey, keyList(), hint)
+	}
+	o := Override{Key: key, Line: v.Line, node: v, set: st}
+	if v.Kind == yaml.AliasNode {
+		v = v.Alias
+	}
+	if v.Kind == yaml.ScalarNode && v.Tag == "!!null" {
+		o.Value, o.canon = "~", "null"
+		return o, nil
+	}
+	if st.path {
+		files, err := pathValue(key, v, st.typ)
+		if err != nil {
+			return Override{}, err
+		}
+		for i, f := range files {
+			files[i] = filepath.ToSlash(filepath.Clean(f))
+		}
+		o.Value = strings.Join(files, " ")
+		o.canon = mustJSON(files)
+		if st.typ.Kind() == reflect.String {
+			o.canon = mustJSON(files[0])
+		}
+		return o, nil
+	}
+	if v.Kind != yaml.ScalarNode {
+		return Override{}, fmt.Errorf("%w: want %s, got a %s", ErrWrongType, describe(st.typ), kindName(v))
+	}
+	ptr := reflect.New(st.typ)
+	if err := v.Decode(ptr.Interface()); err != nil {
+		return Override{}, fmt.Errorf("%w: want %s, got %q", ErrWrongType, describe(st.typ), v.Value)
+	}
+	o.Value = v.Value
+	if st.typ.Kind() == reflect.Bool {
+		o.Value = fmt.Sprint(ptr.Elem().Interface())
+	}
+	o.canon = mustJSON(ptr.Elem().Interface())
+	return o, nil
+}
+
+// pathValue reads a file name, or for a list-valued setting (campus) a name or a list of names.
+func pathValue(key string, v *yaml.Node, typ reflect.Type) ([]string, error) {
+	list := typ.Kind() == reflect.Slice
+	want := "a file name"
+	if list {
+		want = "a file name or a list of file names"
+	}
+	bad := func() error { return fmt.Errorf("%w: want %s, got %s", ErrWrongType, want, shown(v)) }
+	switch {
+	case v.Kind == yaml.ScalarNode && v.Tag == "!!str" && v.Value != "":
+		return []string{v.Value}, nil
+	case list && v.Kind == yaml.SequenceNode && len(v.Content) > 0:
+		var out []string
+		for _, it := range v.Content {
+			if it.Kind != yaml.ScalarNode || it.Tag != "!!str" || it.Value == "" {
+				return nil, bad()
+			}
+			out = append(out, it.Value)
+		}
+		return out, nil
+	}
+	return nil, bad()
+}
+
+func shown(v *yaml.Node) string {
+	if v.Kind == yaml.ScalarNode {
+		return fmt.Sprintf("%q", v.Value)
+	}
+	return "a " + kindName(v)
+}
+
+func kindName(v *yaml.Node) string {
+	switch v.Kind {
+	case yaml.SequenceNode:
+		return "list"
+	case yaml.MappingNode:
+		return "mapping"
+	}
+	return "value"
+}
+
+// describe names what a setting of type t holds, for messages.
+func describe(t reflect.Type) string {
+	if t == reflect.TypeOf(route.Money(0)) {
+		return "an amount such as 1250000 or 99.95"
+	}
+	switch t.Kind() {
+	case reflect.Bool:
+		return "true or false"
+	case reflect.Int, reflect.Int64, reflect.Int32:
+		return "an integer"
+	case reflect.Float64, reflect.Float32:
+		return "a number"
+	case reflect.String:
+		return "text"
+	}
+	return t.String()
+}
+
+func mustJSON(v any) string {
+	b, err := json.Marshal(v)
+	if err != nil {
+		panic("sweep: " + err.Error())
+	}
+	return string(b)
+}
+
+// canonical is the override list in a form that does not depend on how it was written: one
+// "key=value" line per override, sorted by key, values as decoded (so 10 and 10.0 agree).
+func canonical(set []Override) string {
+	lines := make([]string, len(set))
+	for i, o := range set {
+		lines[i] = o.Key + "=" + o.canon
+	}
+	sort.Strings(lines)
+	var b bytes.Buffer
+	for _, l := range lines {
+		b.WriteString(l)
+		b.WriteByte('\n')
+	}
+	return b.String()
+}
+
+// apply changes the plan mapping m (the base plan's root) by each override in order. rebase
+// turns a file name of the sweep file into the name written into the scenario's plan.
+func apply(m *yaml.Node, set []Override, rebase func(string) string) {
+	for _, o := range set {
+		parent := m
+		keys := strings.Split(o.Key, ".")
+		for _, k := range keys[:len(keys)-1] {
+			v := lookup(parent, k)
+			if v == nil || v.Kind != yaml.MappingNode {
+				if o.canon == "null" {
+					parent = nil
+					break
+				}
+				nv := &yaml.Node{Kind: yaml.MappingNode, Tag: "!!map", Style: yaml.FlowStyle}
+				setKey(parent, k, nv)
+				v = nv
+			}
+			parent = v
+		}
+		if parent == nil {
+			continue
+		}
+		leaf := keys[len(keys)-1]
+		if o.canon == "null" {
+			deleteKey(parent, leaf)
+			continue
+		}
+		setKey(parent, leaf, o.valueNode(rebase))
+	}
+}
+
+// valueNode is the override's value as a plan node: file names rebased, anything else as
+// written in the sweep file.
+func (o Override) valueNode(rebase func(string) string) *yaml.Node {
+	if !o.set.path {
+		n := *o.node
+		if n.Kind == yaml.AliasNode {
+			n = *n.Alias
+		}
+		n.Anchor, n.HeadComment, n.LineComment, n.FootComment = "", "", "", ""
+		return &n
+	}
+	return pathNode(o.files(), rebase, o.set.typ.Kind() == reflect.Slice)
+}
+
+// files returns the file names of a file-valued override, as written.
+func (o Override) files() []string {
+	var files []string
+	if strings.HasPrefix(o.canon, "[") {
+		if err := json.Unmarshal([]byte(o.canon), &files); err != nil {
+			panic("sweep: " + err.Error())
+		}
+		return files
+	}
+	var f string
+	if err := json.Unmarshal([]byte(o.canon), &f); err != nil {
+		panic("sweep: " + err.Error())
+	}
+	return []string{f}
+}
+
+func pathNode(files []string, rebase func(string) string, list bool) *yaml.Node {
+	scalar := func(s string) *yaml.Node {
+		return &yaml.Node{Kind: yaml.ScalarNode, Tag: "!!str", Value: rebase(filepath.FromSlash(s))}
+	}
+	if !list {
+		return scalar(files[0])
+	}
+	seq := &yaml.Node{Kind: yaml.SequenceNode, Tag: "!!seq", Style: yaml.FlowStyle}
+	for _, f := range files {
+		seq.Content = append(seq.Content, scalar(f))
+	}
+	return seq
+}
+
+// rebasePlanPaths rewrites the file names the base plan itself gives (relative to its own
+// folder) with rebase, so the scenario's plan can live in another folder.
+func rebasePlanPaths(m *yaml.Node, rebase func(string) string) {
+	for i := 0; i+1 < len(m.Content); i += 2 {
+		k, v := m.Content[i], m.Content[i+1]
+		if !pathKeys[k.Value] {
+			continue
+		}
+		switch v.Kind {
+		case yaml.ScalarNode:
+			if v.Tag == "!!str" && v.Value != "" {
+				v.Value = rebase(v.Value)
+			}
+		case yaml.SequenceNode:
+			for _, it := range v.Content {
+				if it.Kind == yaml.ScalarNode && it.Tag == "!!str" && it.Value != "" {
+					it.Value = rebase(it.Value)
+				}
+			}
+		}
+	}
+}
+
+func lookup(m *yaml.Node, key string) *yaml.Node {
+	for i := 0; i+1 < len(m.Content); i += 2 {
+		if m.Content[i].Value == key {
+			return m.Content[i+1]
+		}
+	}
+	return nil
+}
+
+func setKey(m *yaml.Node, key string, v *yaml.Node) {
+	for i := 0; i+1 < len(m.Content); i += 2 {
+		if m.Content[i].Value == key {
+			m.Content[i+1] = v
+			return
+		}
+	}
+	m.Content = append(m.Content, &yaml.Node{Kind: yaml.ScalarNode, Tag: "!!str", Value: key}, v)
+}
+
+func deleteKey(m *yaml.Node, key string) {
+	for i := 0; i+1 < len(m.Content); i += 2 {
+		if m.Content[i].Value == key {
+			m.Content = append(m.Content[:i], m.Content[i+2:]...)
+			return
+		}
+	}
+}
+
+func errorsIsUnknown(err error) bool { return errors.Is(err, ErrUnknownKey) }

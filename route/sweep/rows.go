@@ -1,0 +1,189 @@
+package sweep
+
+import (
+	"bufio"
+	"bytes"
+	"crypto/sha256"
+	"encoding/hex"
+	"encoding/json"
+	"fmt"
+	"os"
+	"path/filepath"
+	"sort"
+	"strings"
+
+	"spanwright/route"
+)
+
+// Scenario statuses.
+const (
+	StatusOK         = "ok"         // planned, every leg feasible
+	StatusInfeasible = "infeasible" // planned, some legs infeasible
+	StatusFailed     = "failed"     // not planned: the scenario's plan or campus is invalid
+)
+
+// Row is what the comparison keeps of one scenario: its overrides, its status and the
+// figures of its plan summary. Money is integer cents of Currency.
+type Row struct {
+	Index  int         `json:"index"` // 0-based position in sweep order
+	ID     string      `json:"id"`
+	Case   string      `json:"case,omitempty"`
+	Set    [][2]string `json:"set"` // overrides in file order: key, value as written
+	Status string      `json:"status"`
+	Error  string      `json:"error,omitempty"` // why a failed scenario failed
+
+	Currency        string   `json:"currency,omitempty"`
+	TotalCents      int64    `json:"total_cents"`
+	BudgetCents     int64    `json:"budget_cents"`      // 0: no budget
+	OverBudgetCents int64    `json:"over_budget_cents"` // total minus budget; 0 without a budget
+	InfeasibleLegs  int      `json:"infeasible_legs"`
+	WorstMarginDB   *float64 `json:"worst_margin_db"` // smallest loss margin, dB; nil without fibre legs
+	NewTrenchM      float64  `json:"new_trench_m"`    // metres of new trench opened
+	DiverseLinks    int      `json:"diverse_links"`   // links with two disjoint feasible legs
+	DiverseMissing  int      `json:"diverse_missing"` // links that asked for a diverse route and lack one
+	MediaMix        string   `json:"media_mix"`       // feasible legs per medium: "om4:3 os2:5", by medium
+	Warnings        int      `json:"warnings"`
+}
+
+func newRow(sc Scenario) Row {
+	r := Row{Index: sc.Index, ID: sc.ID, Case: sc.Case, Set: make([][2]string, len(sc.Set))}
+	for i, o := range sc.Set {
+		r.Set[i] = [2]string{o.Key, o.Value}
+	}
+	return r
+}
+
+// fill copies the plan summary's figures into the row and sets its status.
+func (r *Row) fill(s route.Summary) {
+	r.Currency = s.Currency
+	r.TotalCents, r.BudgetCents, r.OverBudgetCents = s.TotalCents, s.BudgetCents, s.OverBudgetCents
+	r.InfeasibleLegs = s.Infeasible
+	r.WorstMarginDB = s.WorstMarginDB
+	r.NewTrenchM = s.NewTrenchM
+	r.DiverseLinks, r.DiverseMissing = s.DiverseLinks, s.DiverseShort
+	media := make([]string, 0, len(s.MediaMix))
+	for m, n := range s.MediaMix {
+		media = append(media, fmt.Sprintf("%s:%d", m, n))
+	}
+	sort.Strings(media)
+	r.MediaMix = strings.Join(media, " ")
+	r.Warnings = s.WarningCount
+	r.Status = StatusOK
+	if s.Infeasible > 0 {
+		r.Status = StatusInfeasible
+	}
+}
+
+func (r *Row) fail(err error) {
+	*r = Row{Index: r.Index, ID: r.ID, Case: r.Case, Set: r.Set, Status: StatusFailed, Error: err.Error()}
+}
+
+// value returns the row's value for an override key, "" when the scenario leaves it as the
+// base plan has it.
+func (r *Row) value(key string) string {
+	for _, kv := range r.Set {
+		if kv[0] == key {
+			return kv[1]
+		}
+	}
+	return ""
+}
+
+// RowsFormat is the first field of a rows file's header line.
+const RowsFormat = "spanwright sweep rows 1"
+
+// RowsFile is the rows file of an unsharded sweep or of a merge.
+const RowsFile = "rows.jsonl"
+
+// shardRowsFile is the rows file of one shard.
+func shardRowsFile(s Shard) string { return fmt.Sprintf("rows-%d-of-%d.jsonl", s.I, s.N) }
+
+// rowsHeader is the first line of a rows file: which sweep the rows belong to.
+type rowsHeader struct {
+	Format    string   `json:"format"`
+	Sweep     string   `json:"sweep"`     // SHA-256 of the scenario ids in order, one a line
+	Scenarios int      `json:"scenarios"` // in the whole sweep
+	Keys      []string `json:"keys"`      // override keys, the comparison's columns
+	Shard     string   `json:"shard,omitempty"`
+}
+
+func sweepHash(f *File) string {
+	h := sha256.New()
+	for _, s := range f.Scenarios() {
+		h.Write([]byte(s.ID + "\n"))
+	}
+	return hex.EncodeToString(h.Sum(nil))
+}
+
+// encodeRows renders a rows file: the header line, then one JSON object a line, in index order.
+func encodeRows(h rowsHeader, rows []Row) ([]byte, error) {
+	var b bytes.Buffer
+	enc := json.NewEncoder(&b)
+	enc.SetEscapeHTML(false)
+	if err := enc.Encode(h); err != nil {
+		return nil, err
+	}
+	for i := range rows {
+		if err := enc.Encode(&rows[i]); err != nil {
+			return nil, err
+		}
+	}
+	return b.Bytes(), nil
+}
+
+// readRows reads one rows file.
+func readRows(path string) (rowsHeader, []Row, error) {
+	var h rowsHeader
+	f, err := os.Open(path)
+	if err != nil {
+		return h, nil, err
+	}
+	defer f.Close()
+	sc := bufio.NewScanner(f)
+	sc.Buffer(make([]byte, 0, 64<<10), 16<<20)
+	var rows []Row
+	line := 0
+	for sc.Scan() {
+		line++
+		dec := json.NewDecoder(bytes.NewReader(sc.Bytes()))
+		dec.DisallowUnknownFields()
+		if line == 1 {
+			if err := dec.Decode(&h); err != nil || h.Format != RowsFormat {
+				return h, nil, fmt.Errorf("%s:1: not a sweep rows file (want a header with format %q)", path, RowsFormat)
+			}
+			continue
+		}
+		var r Row
+		if err := dec.Decode(&r); err != nil {
+			return h, nil, fmt.Errorf("%s:%d: %v", path, line, err)
+		}
+		if r.Index < 0 || r.Index >= h.Scenarios {
+			return h, nil, fmt.Errorf("%s:%d: scenario index %d outside 0..%d", path, line, r.Index, h.Scenarios-1)
+		}
+		rows = append(rows, r)
+	}
+	if err := sc.Err(); err != nil {
+		return h, nil, fmt.Errorf("%s: %w", path, err)
+	}
+	if line == 0 {
+		return h, nil, fmt.Errorf("%s: empty file, want a sweep rows file", path)
+	}
+	return h, rows, nil
+}
+
+// findRows lists the rows files of a sweep output folder, sorted.
+func findRows(dir string) ([]string, error) {
+	ents, err := os.ReadDir(dir)
+	if err != nil {
+		return nil, err
+	}
+	var out []string
+	for _, e := range ents {
+		n := e.Name()
+		if !e.IsDir() && strings.HasPrefix(n, "rows") && strings.HasSuffix(n, ".jsonl") {
+			out = append(out, filepath.Join(dir, n))
+		}
+	}
+	sort.Strings(out)
+	return out, nil
+}

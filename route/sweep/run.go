@@ -1,0 +1,648 @@
+package sweep
+
+import (
+	"bytes"
+	"context"
+	"crypto/sha256"
+	"encoding/hex"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"os"
+	"path/filepath"
+	"runtime"
+	"strconv"
+	"strings"
+	"sync"
+
+	"go.yaml.in/yaml/v3"
+
+	"spanwright/media"
+	"spanwright/route"
+)
+
+// Files every planned scenario folder holds besides the plan's outputs.
+const (
+	PlanFile    = "plan.yaml"     // the scenario's plan: the base plan with its overrides
+	InputsFile  = "inputs.sha256" // SHA-256 of the plan and of every file it reads
+	ErrorFile   = "error.txt"     // why the scenario failed; only in a failed scenario's folder
+	SummaryFile = "summary.json"  // the plan summary, read back by a resumed sweep
+)
+
+// Shard selects a deterministic part of a sweep: the scenarios whose index modulo N is I-1.
+// The zero Shard is the whole sweep.
+type Shard struct {
+	I, N int // 1-based part I of N
+}
+
+// ParseShard reads "i/n" with 1 <= i <= n.
+func ParseShard(s string) (Shard, error) {
+	a, b, ok := strings.Cut(s, "/")
+	i, err1 := strconv.Atoi(a)
+	n, err2 := strconv.Atoi(b)
+	if !ok || err1 != nil || err2 != nil || n < 1 || i < 1 || i > n {
+		return Shard{}, fmt.Errorf("shard %q: want i/n with 1 <= i <= n, e.g. 2/8", s)
+	}
+	return Shard{I: i, N: n}, nil
+}
+
+// Whole reports whether the shard is the whole sweep.
+func (s Shard) Whole() bool { return s.N <= 1 }
+
+// Has reports whether the scenario at index belongs to the shard.
+func (s Shard) Has(index int) bool { return s.Whole() || index%s.N == s.I-1 }
+
+func (s Shard) String() string {
+	if s.Whole() {
+		return ""
+	}
+	return fmt.Sprintf("%d/%d", s.I, s.N)
+}
+
+// Options say how a sweep runs.
+type Options struct {
+	Out    string // output folder
+	Jobs   int    // scenarios planned at once; 0 or less means runtime.NumCPU()
+	Resume bool   // skip scenarios whose outputs exist and whose inputs are unchanged
+	Shard  Shard  // the part of the sweep to run; zero for all
+	Write  route.WriteOptions
+	// Extra, when not nil, renders more files for a planned scenario's folder (a report, a
+	// bill of materials); an error fails that scenario.
+	Extra func(*route.Result) ([]route.OutputFile, error)
+	// Progress, when not nil, is called after each scenario of the run, one call at a time.
+	Progress func(Progress)
+}
+
+// Progress is the state of a running sweep.
+type Progress struct {
+	Done    int // scenarios finished, skipped ones included
+	Total   int // scenarios in this run (the shard's share)
+	Skipped int // left as they were by Resume
+	Failed  int
+}
+
+// Report is what a sweep or a merge did.
+type Report struct {
+	Scenarios  int // in the whole sweep
+	Run        int // in this run: the shard's share, or all
+	Skipped    int // left as they were by Resume
+	OK         int
+	Infeasible int // planned with some legs infeasible
+	Failed     int
+	Failures   []Row    // the failed scenarios' rows, in index order
+	Files      []string // files written besides the scenario folders, sorted
+}
+
+// Err sums up the report as an error: nil when every scenario planned with all legs
+// feasible; one wrapping ErrScenarioFailed when some scenario failed (this takes precedence);
+// else one wrapping route.ErrInfeasible when some scenario has infeasible legs.
+func (r *Report) Err() error {
+	switch {
+	case r.Failed > 0:
+		first := r.Failures[0]
+		return fmt.Errorf("%w: %d of %d scenarios, first %s: %s", ErrScenarioFailed, r.Failed, r.Run, first.ID, oneLine(first.Error))
+	case r.Infeasible > 0:
+		return fmt.Errorf("%d of %d scenarios have infeasible legs: %w", r.Infeasible, r.Run, route.ErrInfeasible)
+	}
+	return nil
+}
+
+func (r *Report) count(row Row) {
+	switch row.Status {
+	case StatusOK:
+		r.OK++
+	case StatusInfeasible:
+		r.Infeasible++
+	default:
+		r.Failed++
+		r.Failures = append(r.Failures, row)
+	}
+}
+
+// Run plans every scenario of f in opt.Shard and writes, under opt.Out, one folder per
+// scenario named by its id, then the rows file and, for a whole sweep, the comparison (see
+// Compare). Scenario folders appear whole or not at all: each is written under a temporary
+// name and renamed into place. A scenario that fails is recorded in its row and the sweep goes
+// on; the returned error is only for what stops the sweep (a file that cannot be written, or
+// ctx cancelled: then the finished scenario folders stay and no rows or comparison file is
+// written). The output is the same, byte for byte, whatever opt.Jobs is.
+func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
+	r, err := newRunner(f, opt)
+	if err != nil {
+		return nil, err
+	}
+	var mine []Scenario
+	for _, s := range f.Scenarios() {
+		if opt.Shard.Has(s.Index) {
+			mine = append(mine, s)
+		}
+	}
+	if err := r.clean(mine); err != nil {
+		return nil, err
+	}
+	rows, err := r.runAll(ctx, mine)
+	rep := &Report{Scenarios: len(f.Scenarios()), Run: len(mine)}
+	for i := range rows {
+		if rows[i].ID == "" {
+			continue // not reached before the sweep stopped
+		}
+		rep.count(rows[i])
+	}
+	rep.Skipped = r.skipped
+	if err != nil {
+		return rep, err
+	}
+	h := rowsHeader{Format: RowsFormat, Sweep: sweepHash(f), Scenarios: len(f.Scenarios()), Keys: f.Keys(), Shard: opt.Shard.String()}
+	files, err := renderRun(h, rows, opt.Shard)
+	if err != nil {
+		return rep, err
+	}
+	if err := route.WriteFiles(opt.Out, files, r.protect); err != nil {
+		return rep, err
+	}
+	for _, o := range files {
+		rep.Files = append(rep.Files, filepath.Join(opt.Out, o.Name))
+	}
+	return rep, nil
+}
+
+// renderRun renders the rows file and, for a whole sweep, the comparison.
+func renderRun(h rowsHeader, rows []Row, sh Shard) ([]route.OutputFile, error) {
+	data, err := encodeRows(h, rows)
+	if err != nil {
+		return nil, err
+	}
+	if !sh.Whole() {
+		return []route.OutputFile{{Name: shardRowsFile(sh), Data: data}}, nil
+	}
+	files, err := Compare(rows, h.Keys)
+	if err != nil {
+		return nil, err
+	}
+	return append(files, route.OutputFile{Name: RowsFile, Data: data}), nil
+}
+
+type runner struct {
+	f       *File
+	opt     Options
+	out     string // output folder, as given
+	absOut  string
+	protect []string
+	sites   siteCache
+	engines engineCache
+	hashes  hashCache
+	// rebaseSweep and rebaseBase turn a file name relative to the sweep file's folder, or to
+	// the base plan's, into one relative to a scenario folder.
+	rebaseSweep, rebaseBase func(string) string
+
+	mu      sync.Mutex
+	skipped int
+}
+
+func newRunner(f *File, opt Options) (*runner, error) {
+	if opt.Out == "" {
+		return nil, fmt.Errorf("sweep: no output folder")
+	}
+	out, err := filepath.Abs(opt.Out)
+	if err != nil {
+		return nil, fmt.Errorf("output folder: %w", err)
+	}
+	if err := os.MkdirAll(out, 0o755); err != nil {
+		return nil, fmt.Errorf("create output folder: %w", err)
+	}
+	sweepDir, err := filepath.Abs(f.Dir)
+	if err != nil {
+		return nil, err
+	}
+	baseDir, err := filepath.Abs(filepath.Dir(f.Base))
+	if err != nil {
+		return nil, err
+	}
+	rebase := func(from string) func(string) string {
+		return func(p string) string {
+			if filepath.IsAbs(p) {
+				return filepath.ToSlash(p)
+			}
+			rel, err := filepath.Rel(filepath.Join(out, "scenario"), filepath.Join(from, p))
+			if err != nil {
+				return filepath.ToSlash(filepath.Join(from, p))
+			}
+			return filepath.ToSlash(rel)
+		}
+	}
+	r := &runner{f: f, opt: opt, out: filepath.Clean(opt.Out), absOut: out, rebaseSweep: rebase(sweepDir), rebaseBase: rebase(baseDir)}
+	r.protect = []string{f.Path, f.Base}
+	r.sites.m = map[string]*siteEntry{}
+	r.hashes.m = map[string]*hashEntry{}
+	r.engines.m = map[string]*engineEntry{}
+	return r, nil
+}
+
+// tmpPrefix starts the name of a scenario folder being written; the id follows, then a dot.
+const tmpPrefix = ".tmp-"
+
+// clean removes what a sweep stopped by force (power cut, kill -9) left of this run's
+// scenario folders: temporary folders, whose names hold the scenario id. Other shards'
+// scenarios are not touched, so shards may share the output folder.
+func (r *runner) clean(mine []Scenario) error {
+	ents, err := os.ReadDir(r.out)
+	if err != nil {
+		return err
+	}
+	ids := make(map[string]bool, len(mine))
+	for _, s := range mine {
+		ids[s.ID] = true
+	}
+	for _, e := range ents {
+		n := e.Name()
+		if !e.IsDir() || !strings.HasPrefix(n, tmpPrefix) {
+			continue
+		}
+		id, _, ok := strings.Cut(strings.TrimPrefix(n, tmpPrefix), ".")
+		if ok && ids[id] {
+			if err := os.RemoveAll(filepath.Join(r.out, n)); err != nil {
+				return err
+			}
+		}
+	}
+	return nil
+}
+
+// writersPerJob is how many scenario folders may be written at once per planning worker:
+// writing waits on the disk (every file is synced), so it runs beside the planning.
+const writersPerJob = 4
+
+// outcome is a planned scenario: its row and the folder to write (nil when kept as it was).
+type outcome struct {
+	row   Row
+	files []route.OutputFile
+}
+
+// runAll plans the scenarios on a pool of workers, writes their folders on a pool of writers,
+// and returns their rows in order; a row left zero was not reached before the sweep stopped.
+func (r *runner) runAll(ctx context.Context, list []Scenario) ([]Row, error) {
+	jobs := r.opt.Jobs
+	if jobs <= 0 {
+		jobs = runtime.NumCPU()
+	}
+	jobs = max(1, min(jobs, len(list)))
+	ctx, cancel := context.WithCancel(ctx)
+	defer cancel()
+	type result struct {
+		pos int
+		row Row
+		err error
+	}
+	next := make(chan int)
+	results := make(chan result, jobs)
+	writers := make(chan struct{}, jobs*writersPerJob)
+	var wg sync.WaitGroup
+	for w := 0; w < jobs; w++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for pos := range next {
+				out, err := r.scenario(ctx, list[pos])
+				if err != nil || out.files == nil {
+					results <- result{pos, out.row, err}
+					continue
+				}
+				writers <- struct{}{}
+				wg.Add(1)
+				go func() {
+					defer wg.Done()
+					err := r.publish(out.row.ID, out.files)
+					<-writers
+					results <- result{pos, out.row, err}
+				}()
+			}
+		}()
+	}
+	go func() {
+		defer close(next)
+		for pos := range list {
+			select {
+			case next <- pos:
+			case <-ctx.Done():
+				return
+			}
+		}
+	}()
+	go func() { wg.Wait(); close(results) }()
+
+	rows := make([]Row, len(list))
+	var firstErr error
+	var prog Progress
+	prog.Total = len(list)
+	for res := range results {
+		if res.err != nil {
+			if firstErr == nil {
+				firstErr = res.err
+				cancel()
+			}
+			continue
+		}
+		rows[res.pos] = res.row
+		prog.Done++
+		if res.row.Status == StatusFailed {
+			prog.Failed++
+		}
+		if r.opt.Progress != nil {
+			r.mu.Lock()
+			prog.Skipped = r.skipped
+			r.mu.Unlock()
+			r.opt.Progress(prog)
+		}
+	}
+	if firstErr == nil {
+		firstErr = ctx.Err()
+	}
+	if firstErr != nil {
+		if errors.Is(firstErr, context.Canceled) || errors.Is(firstErr, context.DeadlineExceeded) {
+			return rows, fmt.Errorf("sweep stopped after %d of %d scenarios (finished scenario folders are kept; run again with --resume): %w", prog.Done, len(list), firstErr)
+		}
+		return rows, firstErr
+	}
+	return rows, nil
+}
+
+// scenario plans one scenario and renders its folder. The error is for what must stop the
+// sweep; a scenario's own failure is in the row.
+func (r *runner) scenario(ctx context.Context, sc Scenario) (outcome, error) {
+	out := outcome{row: newRow(sc)}
+	if err := ctx.Err(); err != nil {
+		return out, err
+	}
+	dir := filepath.Join(r.out, sc.ID)
+	planPath := filepath.Join(dir, PlanFile)
+	planData, err := r.planYAML(sc)
+	if err != nil {
+		return out, err
+	}
+	fail := func(err error) (outcome, error) {
+		// Messages name the scenario's plan by its id, whatever the output folder, so the
+		// rows of shards written to different folders merge into the same bytes.
+		out.row.fail(errors.New(strings.ReplaceAll(err.Error(), dir+string(filepath.Separator), sc.ID+"/")))
+		out.files = []route.OutputFile{{Name: PlanFile, Data: planData}, {Name: ErrorFile, Data: []byte(out.row.Error + "\n")}}
+		return out, nil
+	}
+	p, err := route.ParsePlan(planPath, planData)
+	if err != nil {
+		return fail(err)
+	}
+	inputs, err := r.inputsFile(p, planData)
+	if err != nil {
+		return fail(err)
+	}
+	if r.opt.Resume {
+		if s, ok := r.resumable(dir, inputs); ok {
+			out.row.fill(s)
+			r.mu.Lock()
+			r.skipped++
+			r.mu.Unlock()
+			return out, nil
+		}
+	}
+	site, err := r.sites.get(p)
+	if err != nil {
+		return fail(err)
+	}
+	eng, err := r.engines.get(p)
+	if err != nil {
+		return fail(err)
+	}
+	res, err := route.SolveWith(ctx, site, p, eng)
+	if err != nil {
+		if ctx.Err() != nil {
+			return out, ctx.Err()
+		}
+		return fail(err)
+	}
+	files, err := res.Outputs(r.opt.Write)
+	if err != nil {
+		return fail(err)
+	}
+	if r.opt.Extra != nil {
+		more, err := r.opt.Extra(res)
+		if err != nil {
+			return fail(fmt.Errorf("extra outputs: %w", err))
+		}
+		files = append(files, more...)
+	}
+	files = append(files, route.OutputFile{Name: PlanFile, Data: planData}, route.OutputFile{Name: InputsFile, Data: inputs})
+	seen := map[string]bool{}
+	for _, o := range files {
+		if seen[o.Name] || o.Name == ErrorFile {
+			return fail(fmt.Errorf("two outputs named %s", o.Name))
+		}
+		seen[o.Name] = true
+	}
+	out.row.fill(res.Summarize())
+	out.files = files
+	return out, nil
+}
+
+// planYAML renders the scenario's plan: the base plan with file names made relative to the
+// scenario folder and the overrides applied, headed by a comment naming the scenario.
+func (r *runner) planYAML(sc Scenario) ([]byte, error) {
+	var doc yaml.Node
+	if err := yaml.Unmarshal(r.f.baseData, &doc); err != nil {
+		return nil, fmt.Errorf("%s: %w", r.f.Base, err) // checked by Parse
+	}
+	root := doc.Content[0]
+	rebasePlanPaths(root, r.rebaseBase)
+	apply(root, sc.Set, r.rebaseSweep)
+	doc.HeadComment = strings.TrimSpace("scenario " + sc.ID + ": " + sc.Describe() + "\n" + doc.HeadComment)
+	var b bytes.Buffer
+	enc := yaml.NewEncoder(&b)
+	enc.SetIndent(2)
+	if err := enc.Encode(&doc); err != nil {
+		return nil, fmt.Errorf("scenario %s: %w", sc.ID, err)
+	}
+	if err := enc.Close(); err != nil {
+		return nil, err
+	}
+	return b.Bytes(), nil
+}
+
+// inputsFile renders inputs.sha256 in the format of GNU sha256sum: one "hash  name" line
+// for the scenario's plan, then for every file it reads (campus files, catalog, rules, price
+// book), named as the plan names them, relative to the scenario folder; so
+// `sha256sum -c inputs.sha256` run in the folder checks them.
+func (r *runner) inputsFile(p *route.Plan, planData []byte) ([]byte, error) {
+	var b bytes.Buffer
+	sum := sha256.Sum256(planData)
+	fmt.Fprintf(&b, "%s  %s\n", hex.EncodeToString(sum[:]), PlanFile)
+	names := append([]string(nil), p.Campus...)
+	for _, f := range []string{p.Catalog, p.Rules, p.Prices} {
+		if f != "" {
+			names = append(names, f)
+		}
+	}
+	for _, n := range names {
+		h, err := r.hashes.get(p.Path(n))
+		if err != nil {
+			return nil, err
+		}
+		fmt.Fprintf(&b, "%s  %s\n", h, n)
+	}
+	return b.Bytes(), nil
+}
+
+// resumable reports whether the scenario folder holds a finished plan of the same inputs, and
+// its summary.
+func (r *runner) resumable(dir string, inputs []byte) (route.Summary, bool) {
+	var s route.Summary
+	old, err := os.ReadFile(filepath.Join(dir, InputsFile))
+	if err != nil || !bytes.Equal(old, inputs) {
+		return s, false
+	}
+	data, err := os.ReadFile(filepath.Join(dir, SummaryFile))
+	if err != nil || json.Unmarshal(data, &s) != nil {
+		return s, false
+	}
+	return s, true
+}
+
+// publish writes a scenario folder whole: the files go into a temporary folder with
+// route.WriteFiles, which is then renamed to the scenario id, replacing an older folder.
+func (r *runner) publish(id string, files []route.OutputFile) error {
+	final := filepath.Join(r.out, id)
+	tmp, err := os.MkdirTemp(r.out, tmpPrefix+id+".")
+	if err != nil {
+		return fmt.Errorf("scenario %s: %w", id, err)
+	}
+	if err := os.Chmod(tmp, 0o755); err != nil {
+		os.RemoveAll(tmp)
+		return fmt.Errorf("scenario %s: %w", id, err)
+	}
+	if err := route.WriteFiles(tmp, files, r.protect); err != nil {
+		os.RemoveAll(tmp)
+		return fmt.Errorf("scenario %s: %w", id, err)
+	}
+	err = os.Rename(tmp, final)
+	if err != nil {
+		// An older folder is in the way: move it aside, put the new one in place, drop it.
+		old := tmp + "-old"
+		if err2 := os.Rename(final, old); err2 != nil {
+			os.RemoveAll(tmp)
+			return fmt.Errorf("scenario %s: %w", id, err)
+		}
+		if err = os.Rename(tmp, final); err != nil {
+			os.Rename(old, final)
+			os.RemoveAll(tmp)
+			return fmt.Errorf("scenario %s: %w", id, err)
+		}
+		os.RemoveAll(old)
+	}
+	return nil
+}
+
+// siteCache holds one site per campus and noding options, built once and shared read-only.
+type siteCache struct {
+	mu sync.Mutex
+	m  map[string]*siteEntry
+}
+
+type siteEntry struct {
+	once sync.Once
+	site *route.Site
+	err  error
+}
+
+func (c *siteCache) get(p *route.Plan) (*route.Site, error) {
+	files := make([]string, len(p.Campus))
+	for i, f := range p.Campus {
+		files[i] = p.Path(f)
+	}
+	opt := route.SiteOptions{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM}
+	var key strings.Builder
+	for _, f := range files {
+		abs, err := filepath.Abs(f)
+		if err != nil {
+			abs = f
+		}
+		key.WriteString(abs + "\x00")
+	}
+	key.WriteString(strconv.FormatFloat(opt.SnapM, 'g', -1, 64) + "\x00" + strconv.FormatFloat(opt.MaxLateralM, 'g', -1, 64))
+	c.mu.Lock()
+	e := c.m[key.String()]
+	if e == nil {
+		e = &siteEntry{}
+		c.m[key.String()] = e
+	}
+	c.mu.Unlock()
+	e.once.Do(func() { e.site, e.err = route.LoadSite(nil, files, opt) })
+	return e.site, e.err
+}
+
+// hashCache holds the SHA-256 of each input file, read once per sweep.
+type hashCache struct {
+	mu sync.Mutex
+	m  map[string]*hashEntry
+}
+
+type hashEntry struct {
+	once sync.Once
+	sum  string
+	err  error
+}
+
+func (c *hashCache) get(path string) (string, error) {
+	abs, err := filepath.Abs(path)
+	if err != nil {
+		abs = path
+	}
+	c.mu.Lock()
+	e := c.m[abs]
+	if e == nil {
+		e = &hashEntry{}
+		c.m[abs] = e
+	}
+	c.mu.Unlock()
+	e.once.Do(func() {
+		data, err := os.ReadFile(path)
+		if err != nil {
+			e.err = err
+			return
+		}
+		sum := sha256.Sum256(data)
+		e.sum = hex.EncodeToString(sum[:])
+	})
+	return e.sum, e.err
+}
+
+// engineCache holds one media engine per catalog, rule and price files and design section:
+// route.Engine reads only those, and an engine is safe for concurrent use.
+type engineCache struct {
+	mu sync.Mutex
+	m  map[string]*engineEntry
+}
+
+type engineEntry struct {
+	once sync.Once
+	eng  *media.Engine
+	err  error
+}
+
+func (c *engineCache) get(p *route.Plan) (*media.Engine, error) {
+	var key strings.Builder
+	for _, f := range []string{p.Catalog, p.Rules, p.Prices} {
+		if f != "" {
+			if abs, err := filepath.Abs(p.Path(f)); err == nil {
+				f = abs
+			}
+		}
+		key.WriteString(f + "\x00")
+	}
+	fmt.Fprintf(&key, "%#v", p.Design)
+	c.mu.Lock()
+	e := c.m[key.String()]
+	if e == nil {
+		e = &engineEntry{}
+		c.m[key.String()] = e
+	}
+	c.mu.Unlock()
+	e.once.Do(func() { e.eng, e.err = route.Engine(p) })
+	return e.eng, e.err
+}
