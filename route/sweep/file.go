@@ -6,10 +6,14 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"reflect"
 	"regexp"
+	"strconv"
 	"strings"
 
 	"go.yaml.in/yaml/v3"
+
+	"spanwright/route"
 )
 
 // File is a parsed sweep file: a base plan and the alternatives to plan from it.
@@ -340,9 +344,9 @@ var nonSlug = regexp.MustCompile(`[^a-z0-9]+`)
 // list (one "key=value" line per override, sorted by key, each value decoded into the plan
 // setting's type and written as JSON: so "10G" and 10G, or 850000 and 850000.00, agree, and
 // the order overrides are written in does not matter). The slug is the case's name, or for a
-// scenario of the product its values joined by hyphens: file names without folder and
-// extension, true as the key's last part ("allow-new-trench"), false as "no-" and that part,
-// null as that part and "-default"; lower-cased, anything but a-z and 0-9 turned into
+// scenario of the product its values joined by hyphens: text as written, numbers as decoded,
+// file names without folder and extension, true as the key's last part ("allow-new-trench"),
+// false as "no-" and that part, null as that part and "-default"; lower-cased, anything but a-z and 0-9 turned into
 // hyphens, at most 48 bytes. Renaming a case changes only the slug.
 func ScenarioID(caseName string, set []Override) string {
 	sum := sha256.Sum256([]byte(canonical(set)))
@@ -384,6 +388,11 @@ func (o Override) slugPart() string {
 		return leaf
 	case o.canon == "false":
 		return "no-" + leaf
+	case o.set.typ == reflect.TypeOf(route.Money(0)):
+		c, _ := strconv.ParseInt(o.canon, 10, 64)
+		return strings.TrimSuffix(money(c), ".00")
+	case o.set.typ.Kind() != reflect.String:
+		return o.canon // numbers as decoded: 1.0 and 1 agree
 	}
 	return o.Value
 }

@@ -1,0 +1,140 @@
+package sweep
+
+import (
+	"math"
+	"math/rand/v2"
+	"strings"
+	"testing"
+)
+
+func fp(x float64) *float64 { return &x }
+
+// dominates is the Pareto dominance of the definition, written plainly: a is no worse than b
+// on every objective and better on one.
+func dominates(a, b Row) bool {
+	m := func(r Row) float64 {
+		if r.WorstMarginDB == nil {
+			return math.Inf(1)
+		}
+		return *r.WorstMarginDB
+	}
+	noWorse := a.TotalCents <= b.TotalCents && m(a) >= m(b) && a.DiverseMissing <= b.DiverseMissing
+	better := a.TotalCents < b.TotalCents || m(a) > m(b) || a.DiverseMissing < b.DiverseMissing
+	return noWorse && better
+}
+
+func TestJudge(t *testing.T) {
+	t.Parallel()
+	rows := []Row{
+		{Index: 0, Status: StatusOK, TotalCents: 100, WorstMarginDB: fp(1), DiverseMissing: 2},
+		{Index: 1, Status: StatusOK, TotalCents: 200, WorstMarginDB: fp(3), DiverseMissing: 2},
+		{Index: 2, Status: StatusOK, TotalCents: 200, WorstMarginDB: fp(2), DiverseMissing: 2}, // dominated by 1
+		{Index: 3, Status: StatusOK, TotalCents: 300, WorstMarginDB: fp(0.5), DiverseMissing: 0},
+		{Index: 4, Status: StatusOK, TotalCents: 100, WorstMarginDB: fp(1), DiverseMissing: 2}, // equal to 0
+		{Index: 5, Status: StatusInfeasible, TotalCents: 10, WorstMarginDB: fp(9)},
+		{Index: 6, Status: StatusFailed},
+		{Index: 7, Status: StatusOK, TotalCents: 400, DiverseMissing: 0},                       // copper only: no margin to lose
+		{Index: 8, Status: StatusOK, TotalCents: 500, WorstMarginDB: fp(5), DiverseMissing: 0}, // dominated by 7
+	}
+	js := judge(rows)
+	wantRank := []int{1, 3, 3, 5, 1, 0, 0, 6, 7} // equal costs share a rank, the next skips
+	wantPareto := []bool{true, true, false, true, true, false, false, true, false}
+	for i, j := range js {
+		if j.rank != wantRank[i] || j.pareto != wantPareto[i] {
+			t.Errorf("row %d: got rank %d pareto %v, want %d %v", i, j.rank, j.pareto, wantRank[i], wantPareto[i])
+		}
+	}
+}
+
+// TestJudgeBruteForce checks the sorted Pareto sweep against the O(n²) definition on random
+// tables with many ties.
+func TestJudgeBruteForce(t *testing.T) {
+	t.Parallel()
+	rng := rand.New(rand.NewPCG(1, 2))
+	for trial := 0; trial < 300; trial++ {
+		n := 1 + rng.IntN(40)
+		rows := make([]Row, n)
+		for i := range rows {
+			rows[i] = Row{Index: i, Status: StatusOK, TotalCents: int64(rng.IntN(6)) * 100, DiverseMissing: rng.IntN(3)}
+			if rng.IntN(5) > 0 {
+				rows[i].WorstMarginDB = fp(float64(rng.IntN(4)) / 2)
+			}
+			if rng.IntN(8) == 0 {
+				rows[i].Status = StatusInfeasible
+			}
+		}
+		js := judge(rows)
+		for i := range rows {
+			want := rows[i].Status == StatusOK
+			for k := range rows {
+				if rows[k].Status == StatusOK && dominates(rows[k], rows[i]) {
+					want = false
+				}
+			}
+			if js[i].pareto != want {
+				t.Fatalf("trial %d row %d %+v: got pareto %v, want %v", trial, i, rows[i], js[i].pareto, want)
+			}
+			if rows[i].Status == StatusOK {
+				cheaper := 0
+				for k := range rows {
+					if rows[k].Status == StatusOK && rows[k].TotalCents < rows[i].TotalCents {
+						cheaper++
+					}
+				}
+				if js[i].rank != cheaper+1 {
+					t.Fatalf("trial %d row %d: got rank %d, want %d", trial, i, js[i].rank, cheaper+1)
+				}
+			}
+		}
+	}
+}
+
+func TestMoney(t *testing.T) {
+	t.Parallel()
+	cases := []struct {
+		cents int64
+		want  string
+	}{{0, "0.00"}, {5, "0.05"}, {-5, "-0.05"}, {123456789, "1234567.89"}, {-100, "-1.00"}, {math.MaxInt64, "92233720368547758.07"}}
+	for _, tc := range cases {
+		t.Run(tc.want, func(t *testing.T) {
+			if got := money(tc.cents); got != tc.want {
+				t.Errorf("%d cents: got %q, want %q", tc.cents, got, tc.want)
+			}
+		})
+	}
+}
+
+func TestCompareMarkdown(t *testing.T) {
+	t.Parallel()
+	rows := []Row{
+		{Index: 0, ID: "a-1", Set: [][2]string{{"hub", "A|B"}}, Status: StatusOK, Currency: "EUR", TotalCents: 150, BudgetCents: 100, OverBudgetCents: 50, WorstMarginDB: fp(1.234), MediaMix: "os2:2"},
+		{Index: 1, ID: "b-2", Case: "b", Status: StatusFailed, Error: "b-2/plan.yaml: hub: bad\nsecond line"},
+	}
+	files, err := Compare(rows, []string{"hub"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var md, csvText string
+	for _, f := range files {
+		switch f.Name {
+		case CompareMD:
+			md = string(f.Data)
+		case CompareCSV:
+			csvText = string(f.Data)
+		}
+	}
+	for _, want := range []string{
+		"2 scenarios: 1 ok, 0 with infeasible legs, 1 failed. Money in EUR.",
+		"Pareto optimal: `a-1`.",
+		"| 0 | `a-1` |  | A\\|B | ok | 1.50 | 1.00 | 0.50 | 0 | 1.23 | 0.0 | 0 | 0 | os2:2 | 1 | yes | 0 |",
+		"- `b-2`: b-2/plan.yaml: hub: bad; second line",
+		"| total cost (EUR) |",
+	} {
+		if !strings.Contains(md, want) {
+			t.Errorf("compare.md lacks %q:\n%s", want, md)
+		}
+	}
+	if !strings.Contains(csvText, "0,a-1,,A|B,ok,EUR,1.50,1.00,0.50,0,1.23,0.0,0,0,os2:2,1,yes,0,\n") {
+		t.Errorf("compare.csv:\n%s", csvText)
+	}
+}

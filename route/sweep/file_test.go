@@ -1,0 +1,307 @@
+package sweep
+
+import (
+	"crypto/sha256"
+	"encoding/hex"
+	"errors"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"go.yaml.in/yaml/v3"
+
+	"spanwright/route"
+)
+
+const fixtures = "../../testdata/sweep"
+
+func load(t *testing.T, name string) *File {
+	t.Helper()
+	f, err := Load(filepath.Join(fixtures, name))
+	if err != nil {
+		t.Fatal(err)
+	}
+	return f
+}
+
+func TestExpandOrderAndIDs(t *testing.T) {
+	t.Parallel()
+	f := load(t, "sweep.yaml")
+	sc := f.Scenarios()
+	if len(sc) != 2*2*2*2+2 {
+		t.Fatalf("got %d scenarios, want 18", len(sc))
+	}
+	// The first axis varies slowest, values in file order, then the cases.
+	want := []string{
+		"hub=ADM defaults.rate=10G prices=prices-low.yaml design.allow_new_trench=true",
+		"hub=ADM defaults.rate=10G prices=prices-low.yaml design.allow_new_trench=false",
+		"hub=ADM defaults.rate=10G prices=prices-high.yaml design.allow_new_trench=true",
+	}
+	for i, w := range want {
+		if got := sc[i].Describe(); got != w {
+			t.Errorf("scenario %d: got %q, want %q", i, got, w)
+		}
+	}
+	if got := sc[8].Describe(); !strings.HasPrefix(got, "hub=ENG defaults.rate=10G prices=prices-low.yaml") {
+		t.Errorf("scenario 8: got %q, want the second hub's first", got)
+	}
+	if got := sc[16].Describe(); got != "case all-diverse: defaults.redundancy=diverse" {
+		t.Errorf("scenario 16: got %q", got)
+	}
+	if sc[17].Case != "bad-hub" {
+		t.Errorf("scenario 17: got case %q, want bad-hub", sc[17].Case)
+	}
+	for i, s := range sc {
+		if s.Index != i {
+			t.Errorf("scenario %d has index %d", i, s.Index)
+		}
+	}
+	// The id is the slug and the first 8 hex digits of the SHA-256 of the canonical list:
+	// sorted "key=JSON value" lines.
+	canon := "defaults.rate=\"10G\"\ndesign.allow_new_trench=true\nhub=\"ADM\"\nprices=\"prices-low.yaml\"\n"
+	sum := sha256.Sum256([]byte(canon))
+	wantID := "adm-10g-prices-low-allow-new-trench-" + hex.EncodeToString(sum[:])[:8]
+	if sc[0].ID != wantID {
+		t.Errorf("id: got %q, want %q", sc[0].ID, wantID)
+	}
+	if !strings.HasPrefix(sc[1].ID, "adm-10g-prices-low-no-allow-new-trench-") {
+		t.Errorf("id of a false value: got %q", sc[1].ID)
+	}
+	if !strings.HasPrefix(sc[16].ID, "all-diverse-") {
+		t.Errorf("id of a case: got %q", sc[16].ID)
+	}
+	// Cross-check the hash with GNU coreutils sha256sum.
+	if path, err := exec.LookPath("sha256sum"); err == nil {
+		cmd := exec.Command(path)
+		cmd.Stdin = strings.NewReader(canon)
+		out, err := cmd.Output()
+		if err != nil || !strings.HasPrefix(string(out), wantID[len(wantID)-8:]) {
+			t.Errorf("sha256sum: got %q (%v), want it to start %s", out, err, wantID[len(wantID)-8:])
+		}
+	}
+	if got, want := strings.Join(f.Keys(), ","), "hub,defaults.rate,prices,design.allow_new_trench,defaults.redundancy"; got != want {
+		t.Errorf("keys: got %s, want %s", got, want)
+	}
+}
+
+// TestIDCanonical checks that how a value is written does not change the id.
+func TestIDCanonical(t *testing.T) {
+	t.Parallel()
+	ids := func(src string) []string {
+		t.Helper()
+		f := parseInline(t, src)
+		var out []string
+		for _, s := range f.Scenarios() {
+			out = append(out, s.ID)
+		}
+		return out
+	}
+	cases := []struct{ name, a, b string }{
+		{"float written as integer", "vary: {design.snap_m: [1]}", "vary: {design.snap_m: [1.0]}"},
+		{"money with decimals", "vary: {budget: [850000]}", "vary: {budget: [850000.00]}"},
+		{"quoted text", "vary: {hub: [ADM]}", "vary: {hub: ['ADM']}"},
+		{"override order", "cases: [{name: c, hub: ADM, defaults.rate: 10G}]", "cases: [{name: c, defaults.rate: 10G, hub: ADM}]"},
+		{"yes for true", "vary: {design.allow_new_trench: [true]}", "vary: {design.allow_new_trench: [yes]}"},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			a, b := ids(tc.a), ids(tc.b)
+			if strings.Join(a, ",") != strings.Join(b, ",") {
+				t.Errorf("%s: ids differ: %v and %v", tc.name, a, b)
+			}
+		})
+	}
+	if a, b := ids("vary: {hub: [ADM]}"), ids("cases: [{name: adm, hub: ADM}]"); a[0] != b[0] {
+		t.Errorf("a case named like the product's slug: got %s and %s, want the same id", a[0], b[0])
+	}
+	long := ids("cases: [{name: " + strings.Repeat("very-long-name-", 10) + ", hub: ADM}]")[0]
+	if slug := long[:len(long)-9]; len(slug) > maxSlug || strings.HasSuffix(slug, "-") {
+		t.Errorf("long slug: got %q", long)
+	}
+}
+
+// parseInline parses a sweep file whose base is the demo plan.
+func parseInline(t *testing.T, body string) *File {
+	t.Helper()
+	abs, err := filepath.Abs("../../testdata/demo/plan.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	f, err := Parse(filepath.Join(fixtures, "inline.yaml"), []byte("base: "+abs+"\n"+body+"\n"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	return f
+}
+
+func TestParseErrors(t *testing.T) {
+	t.Parallel()
+	_, err := Load(filepath.Join(fixtures, "bad.yaml"))
+	if err == nil {
+		t.Fatal("bad.yaml: got no error")
+	}
+	if !errors.Is(err, ErrInvalid) {
+		t.Errorf("bad.yaml: error does not match ErrInvalid: %v", err)
+	}
+	want := []struct {
+		text     string
+		sentinel error
+	}{
+		{"bad.yaml:5: vary: defaults.speed: unknown key; want one of budget,", ErrUnknownKey},
+		{`bad.yaml:6: vary: design.snap_m: wrong type: want a number, got "wide"`, ErrWrongType},
+		{`bad.yaml:7: vary: design.allow_new_trench: wrong type: want a non-empty list of values, got "yes"`, ErrWrongType},
+		{`bad.yaml:9: case "strands-text": defaults.strands: wrong type: want an integer, got "many"`, ErrWrongType},
+		{`bad.yaml:10: case "strands-text": name: used twice: the case at line 9 has the same name`, ErrDuplicate},
+		{"bad.yaml:11: cases[2]: name: missing: every case needs a name", nil},
+		{`bad.yaml:12: case "links": links: unknown key;`, ErrUnknownKey},
+		{`bad.yaml:13: case "budget-list": budget: wrong type: want an amount such as 1250000 or 99.95, got a list`, ErrWrongType},
+	}
+	var list *ErrorList
+	if !errors.As(err, &list) || len(list.Errs) != len(want) {
+		t.Fatalf("bad.yaml: got %v, want %d errors", err, len(want))
+	}
+	for i, w := range want {
+		got := list.Errs[i].Error()
+		if !strings.Contains(got, w.text) {
+			t.Errorf("error %d: got %q, want it to contain %q", i, got, w.text)
+		}
+		if w.sentinel != nil && !errors.Is(list.Errs[i], w.sentinel) {
+			t.Errorf("error %d: %v does not match %v", i, got, w.sentinel)
+		}
+	}
+
+	inline := []struct{ name, src, want string }{
+		{"no base", "vary: {hub: [ADM]}", "base: missing"},
+		{"base missing", "base: nowhere.yaml\nvary: {hub: [ADM]}", "nowhere.yaml: no such file"},
+		{"base not a plan", "base: bad-base.yaml\nvary: {hub: [ADM]}", "bad-base.yaml: want a mapping of plan keys"},
+		{"nothing to sweep", "base: ../demo/plan.yaml", "nothing to sweep"},
+		{"unknown top key", "base: ../demo/plan.yaml\nvary: {hub: [ADM]}\nextra: 1", "x.yaml:3: extra: unknown key; want base, vary or cases"},
+		{"not a mapping", "[1, 2]", "want a mapping with base, vary and cases"},
+		{"not YAML", "base: [", "not YAML"},
+		{"empty axis", "base: ../demo/plan.yaml\nvary: {hub: []}", "hub: wrong type: want a non-empty list"},
+		{"same scenario twice", "base: ../demo/plan.yaml\nvary: {hub: [ADM, ADM]}", "used twice: scenario id"},
+		{"campus not a name", "base: ../demo/plan.yaml\ncases: [{name: c, campus: [1]}]", `case "c": campus: wrong type: want a file name or a list of file names`},
+		{"defaults alone", "base: ../demo/plan.yaml\ncases: [{name: c, defaults: {rate: 10G}}]", `case "c": defaults: unknown key`},
+		{"mapping for text", "base: ../demo/plan.yaml\nvary: {hub: [{a: 1}]}", "vary: hub: wrong type: want text, got a mapping"},
+	}
+	for _, tc := range inline {
+		t.Run(tc.name, func(t *testing.T) {
+			_, err := Parse(filepath.Join(fixtures, "x.yaml"), []byte(tc.src))
+			if err == nil || !strings.Contains(err.Error(), tc.want) || !errors.Is(err, ErrInvalid) {
+				t.Errorf("%s: got %v, want an invalid sweep error containing %q", tc.name, err, tc.want)
+			}
+		})
+	}
+}
+
+// TestApply checks the plan a scenario's overrides make, read back with route.ParsePlan.
+func TestApply(t *testing.T) {
+	t.Parallel()
+	base := "name: p\ncampus: [c.geojson]\nhub: ADM\ndesign: {snap_m: 0.5}\n"
+	cases := []struct {
+		name  string
+		cases string
+		check func(p *route.Plan) string
+	}{
+		{"nested key set", "{name: a, design.snap_m: 2, defaults.rate: 25G}", func(p *route.Plan) string {
+			if p.Design.SnapM != 2 || p.Defaults.Rate != "25G" || p.Design.MaxLateralM != route.PlanDefaults.Design.MaxLateralM {
+				return "design and defaults not set"
+			}
+			return ""
+		}},
+		{"null removes", "{name: a, hub: ~}", func(p *route.Plan) string {
+			if p.Hub != "" {
+				return "hub kept: " + p.Hub
+			}
+			return ""
+		}},
+		{"file relative to the sweep file", "{name: a, prices: sub/p.yaml, campus: [x.geojson, y.geojson]}", func(p *route.Plan) string {
+			if p.Path(p.Prices) != filepath.Join("sweepdir", "sub", "p.yaml") {
+				return "prices at " + p.Path(p.Prices)
+			}
+			if p.Path(p.Campus[1]) != filepath.Join("sweepdir", "y.geojson") {
+				return "campus at " + p.Path(p.Campus[1])
+			}
+			return ""
+		}},
+		{"base file relative to the base", "{name: a, hub: ENG}", func(p *route.Plan) string {
+			if p.Path(p.Campus[0]) != filepath.Join("plandir", "c.geojson") {
+				return "campus at " + p.Path(p.Campus[0])
+			}
+			return ""
+		}},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			dir := t.TempDir()
+			os.MkdirAll(filepath.Join(dir, "plandir"), 0o755)
+			os.MkdirAll(filepath.Join(dir, "sweepdir"), 0o755)
+			os.WriteFile(filepath.Join(dir, "plandir", "plan.yaml"), []byte(base), 0o644)
+			f, err := Parse(filepath.Join(dir, "sweepdir", "s.yaml"), []byte("base: ../plandir/plan.yaml\ncases: ["+tc.cases+"]\n"))
+			if err != nil {
+				t.Fatal(err)
+			}
+			r, err := newRunner(f, Options{Out: filepath.Join(dir, "out")})
+			if err != nil {
+				t.Fatal(err)
+			}
+			data, err := r.planYAML(f.Scenarios()[0])
+			if err != nil {
+				t.Fatal(err)
+			}
+			p, err := route.ParsePlan(filepath.Join(dir, "out", "x", PlanFile), data)
+			if err != nil {
+				t.Fatalf("%s: %v\n%s", tc.name, err, data)
+			}
+			// Paths, relative to the scenario folder, resolve to the files named.
+			rel := func(s string) string {
+				r, _ := filepath.Rel(dir, s)
+				return r
+			}
+			p.Dir = filepath.Join(dir, "out", "x")
+			for i := range p.Campus {
+				p.Campus[i] = rel(p.Path(p.Campus[i]))
+			}
+			if p.Prices != "" {
+				p.Prices = rel(p.Path(p.Prices))
+			}
+			p.Dir = ""
+			if msg := tc.check(p); msg != "" {
+				t.Errorf("%s: %s\n%s", tc.name, msg, data)
+			}
+			var doc yaml.Node
+			if err := yaml.Unmarshal(data, &doc); err != nil || !strings.Contains(doc.HeadComment, "scenario "+f.Scenarios()[0].ID) {
+				t.Errorf("%s: plan does not name its scenario: %q", tc.name, doc.HeadComment)
+			}
+		})
+	}
+}
+
+func TestParseShard(t *testing.T) {
+	t.Parallel()
+	cases := []struct {
+		in   string
+		want Shard
+		ok   bool
+	}{{"1/1", Shard{1, 1}, true}, {"3/8", Shard{3, 8}, true}, {"0/4", Shard{}, false}, {"5/4", Shard{}, false}, {"2", Shard{}, false}, {"a/b", Shard{}, false}}
+	for _, tc := range cases {
+		t.Run(tc.in, func(t *testing.T) {
+			got, err := ParseShard(tc.in)
+			if (err == nil) != tc.ok || got != tc.want {
+				t.Errorf("%q: got %v, %v; want %v, ok %v", tc.in, got, err, tc.want, tc.ok)
+			}
+		})
+	}
+	s := Shard{2, 3}
+	var mine []int
+	for i := 0; i < 9; i++ {
+		if s.Has(i) {
+			mine = append(mine, i)
+		}
+	}
+	if len(mine) != 3 || mine[0] != 1 || mine[1] != 4 || mine[2] != 7 {
+		t.Errorf("shard 2/3 of 9: got %v, want [1 4 7]", mine)
+	}
+}

@@ -1,0 +1,446 @@
+package sweep
+
+import (
+	"bytes"
+	"context"
+	"encoding/csv"
+	"errors"
+	"io/fs"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"sort"
+	"strings"
+	"testing"
+
+	"github.com/xuri/excelize/v2"
+
+	"spanwright/route"
+)
+
+func run(t *testing.T, f *File, opt Options) *Report {
+	t.Helper()
+	rep, err := Run(context.Background(), f, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return rep
+}
+
+// tree reads every file under dir by its slash path relative to dir.
+func tree(t *testing.T, dir string) map[string][]byte {
+	t.Helper()
+	out := map[string][]byte{}
+	err := filepath.WalkDir(dir, func(p string, d fs.DirEntry, err error) error {
+		if err != nil || d.IsDir() {
+			return err
+		}
+		data, err := os.ReadFile(p)
+		rel, _ := filepath.Rel(dir, p)
+		out[filepath.ToSlash(rel)] = data
+		return err
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return out
+}
+
+func sameTree(t *testing.T, what string, a, b map[string][]byte) {
+	t.Helper()
+	var names []string
+	for n := range a {
+		names = append(names, n)
+	}
+	for n := range b {
+		if _, ok := a[n]; !ok {
+			names = append(names, n)
+		}
+	}
+	sort.Strings(names)
+	for _, n := range names {
+		x, okx := a[n]
+		y, oky := b[n]
+		switch {
+		case !okx || !oky:
+			t.Errorf("%s: %s only in one tree", what, n)
+		case !bytes.Equal(x, y):
+			t.Errorf("%s: %s differs", what, n)
+		}
+	}
+}
+
+func TestRunSameBytesWhateverJobs(t *testing.T) {
+	t.Parallel()
+	f := load(t, "small.yaml")
+	d1, d4 := t.TempDir(), t.TempDir()
+	r1 := run(t, f, Options{Out: d1, Jobs: 1})
+	r4 := run(t, f, Options{Out: d4, Jobs: 4})
+	if r1.OK != 4 || r1.Infeasible != 1 || r1.Failed != 1 || r1.Run != 6 {
+		t.Errorf("report: got %+v, want 4 ok, 1 infeasible, 1 failed of 6", r1)
+	}
+	if r4.OK != r1.OK || r4.Infeasible != r1.Infeasible || r4.Failed != r1.Failed {
+		t.Errorf("jobs 4 report %+v differs from jobs 1 %+v", r4, r1)
+	}
+	t1, t4 := tree(t, d1), tree(t, d4)
+	sameTree(t, "jobs 1 vs 4", t1, t4)
+	for _, s := range f.Scenarios() {
+		if s.Case == "bad-hub" {
+			continue
+		}
+		for _, name := range []string{PlanFile, InputsFile, SummaryFile, "routes.geojson", "links.csv"} {
+			if _, ok := t1[s.ID+"/"+name]; !ok {
+				t.Errorf("%s: no %s", s.ID, name)
+			}
+		}
+	}
+	for _, name := range []string{CompareCSV, CompareMD, CompareXLSX, RowsFile} {
+		if _, ok := t1[name]; !ok {
+			t.Errorf("no %s", name)
+		}
+	}
+}
+
+func TestInputsFileChecksWithSha256sum(t *testing.T) {
+	t.Parallel()
+	path, err := exec.LookPath("sha256sum")
+	if err != nil {
+		if os.Getenv("CI") == "true" {
+			t.Fatal("sha256sum (GNU coreutils) is needed in CI")
+		}
+		t.Skip("sha256sum (GNU coreutils) not installed")
+	}
+	f := load(t, "small.yaml")
+	dir := t.TempDir()
+	run(t, f, Options{Out: dir, Jobs: 2})
+	sc := f.Scenarios()[0]
+	cmd := exec.Command(path, "-c", InputsFile)
+	cmd.Dir = filepath.Join(dir, sc.ID)
+	out, err := cmd.CombinedOutput()
+	if err != nil {
+		t.Fatalf("sha256sum -c: %v\n%s", err, out)
+	}
+	want := "plan.yaml: OK\n" + sc.ID // the campus line follows
+	if !strings.HasPrefix(string(out), "plan.yaml: OK\n") || strings.Count(string(out), ": OK") != 2 {
+		t.Errorf("sha256sum -c: got %q, want %q and the campus file OK", out, want[:14])
+	}
+}
+
+func TestFailureRowAndOutcome(t *testing.T) {
+	t.Parallel()
+	f := load(t, "small.yaml")
+	dir := t.TempDir()
+	rep := run(t, f, Options{Out: dir, Jobs: 2})
+	if len(rep.Failures) != 1 {
+		t.Fatalf("got %d failures, want 1", len(rep.Failures))
+	}
+	fr := rep.Failures[0]
+	wantErr := fr.ID + `/plan.yaml: hub: invalid plan: unknown building "NOWHERE"`
+	if fr.Case != "bad-hub" || fr.Status != StatusFailed || fr.Error != wantErr {
+		t.Errorf("failed row: got %+v, want case bad-hub with error %q", fr, wantErr)
+	}
+	got, err := os.ReadFile(filepath.Join(dir, fr.ID, ErrorFile))
+	if err != nil || string(got) != wantErr+"\n" {
+		t.Errorf("error.txt: got %q (%v)", got, err)
+	}
+	if _, err := os.Stat(filepath.Join(dir, fr.ID, SummaryFile)); err == nil {
+		t.Errorf("a failed scenario has a summary")
+	}
+	csvFile, err := os.Open(filepath.Join(dir, CompareCSV))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer csvFile.Close()
+	recs, err := csv.NewReader(csvFile).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	last, head := recs[len(recs)-1], recs[0]
+	if head[len(head)-1] != "error" || last[len(last)-1] != wantErr || last[3] != "NOWHERE" || last[6] != StatusFailed {
+		t.Errorf("compare.csv failure row: got %q", last)
+	}
+	if err := rep.Err(); !errors.Is(err, ErrScenarioFailed) || errors.Is(err, route.ErrInfeasible) {
+		t.Errorf("outcome with a failure: got %v, want ErrScenarioFailed only", err)
+	}
+	// Without the failing case, the infeasible one decides.
+	g := parseInline(t, "cases: [{name: all-diverse, defaults.redundancy: diverse}, {name: base}]")
+	rep = run(t, g, Options{Out: t.TempDir(), Jobs: 2})
+	if err := rep.Err(); !errors.Is(err, route.ErrInfeasible) || rep.Infeasible != 1 || rep.OK != 1 {
+		t.Errorf("outcome with infeasible legs: got %v (%+v), want route.ErrInfeasible", err, rep)
+	}
+	rep = run(t, parseInline(t, "cases: [{name: base}]"), Options{Out: t.TempDir()})
+	if err := rep.Err(); err != nil {
+		t.Errorf("outcome of the base alone: got %v, want nil", err)
+	}
+}
+
+func TestResume(t *testing.T) {
+	t.Parallel()
+	// The sweep's own copy of a price book, so the test can change it.
+	tmp := t.TempDir()
+	prices, err := os.ReadFile(filepath.Join(fixtures, "prices-low.yaml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	os.WriteFile(filepath.Join(tmp, "a.yaml"), prices, 0o644)
+	os.WriteFile(filepath.Join(tmp, "b.yaml"), prices, 0o644)
+	base, _ := filepath.Abs("../../testdata/demo/plan.yaml")
+	src := "base: " + base + "\nvary:\n  hub: [ADM, ENG]\n  prices: [a.yaml, b.yaml]\ncases: [{name: bad-hub, hub: NOWHERE}]\n"
+	sweepFile := filepath.Join(tmp, "s.yaml")
+	os.WriteFile(sweepFile, []byte(src), 0o644)
+	f, err := Load(sweepFile)
+	if err != nil {
+		t.Fatal(err)
+	}
+	out := filepath.Join(tmp, "out")
+	run(t, f, Options{Out: out, Jobs: 2})
+	first := tree(t, out)
+
+	rep := run(t, f, Options{Out: out, Jobs: 2, Resume: true})
+	if rep.Skipped != 4 { // the failed scenario is planned again
+		t.Errorf("resume, nothing changed: skipped %d, want 4", rep.Skipped)
+	}
+	sameTree(t, "resumed", first, tree(t, out))
+
+	// Change one price book: the two scenarios using it are planned again.
+	os.WriteFile(filepath.Join(tmp, "b.yaml"), bytes.Replace(prices, []byte("hourly_rate: 92.00"), []byte("hourly_rate: 99.00"), 1), 0o644)
+	f, _ = Load(sweepFile)
+	rep = run(t, f, Options{Out: out, Jobs: 2, Resume: true})
+	if rep.Skipped != 2 {
+		t.Errorf("resume after a price change: skipped %d, want 2", rep.Skipped)
+	}
+	// A damaged inputs file makes its scenario run again too.
+	id := f.Scenarios()[0].ID
+	os.WriteFile(filepath.Join(out, id, InputsFile), []byte("0  plan.yaml\n"), 0o644)
+	rep = run(t, f, Options{Out: out, Jobs: 1, Resume: true})
+	if rep.Skipped != 3 {
+		t.Errorf("resume after damage: skipped %d, want 3", rep.Skipped)
+	}
+	after := tree(t, out)
+	if !bytes.Equal(after[id+"/"+InputsFile], first[id+"/"+InputsFile]) {
+		t.Errorf("the damaged scenario was not written again")
+	}
+	// The resumed comparison is the one a fresh sweep writes.
+	fresh := filepath.Join(tmp, "fresh")
+	run(t, f, Options{Out: fresh, Jobs: 2})
+	sameTree(t, "resumed vs fresh", tree(t, fresh), after)
+}
+
+func TestShardAndMerge(t *testing.T) {
+	t.Parallel()
+	f := load(t, "small.yaml")
+	whole := t.TempDir()
+	run(t, f, Options{Out: whole, Jobs: 2})
+	want := tree(t, whole)
+
+	// Three shards in three folders, and the same three in one shared folder.
+	root := t.TempDir()
+	shared := filepath.Join(root, "shared")
+	var dirs []string
+	for i := 1; i <= 3; i++ {
+		d := filepath.Join(root, "shard", string(rune('0'+i)))
+		dirs = append(dirs, d)
+		rep := run(t, f, Options{Out: d, Jobs: 2, Shard: Shard{i, 3}})
+		if rep.Run != 2 || rep.Scenarios != 6 {
+			t.Errorf("shard %d/3: ran %d of %d, want 2 of 6", i, rep.Run, rep.Scenarios)
+		}
+		run(t, f, Options{Out: shared, Jobs: 1, Shard: Shard{i, 3}})
+		if _, err := os.Stat(filepath.Join(d, CompareCSV)); err == nil {
+			t.Errorf("shard %d wrote a comparison", i)
+		}
+	}
+	for _, tc := range []struct {
+		name string
+		dirs []string
+	}{{"separate folders", dirs}, {"shared folder", []string{shared}}} {
+		t.Run(tc.name, func(t *testing.T) {
+			out := filepath.Join(t.TempDir(), "merged")
+			rep, err := Merge(tc.dirs, out)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if rep.OK != 4 || rep.Failed != 1 || rep.Infeasible != 1 {
+				t.Errorf("merge report: %+v", rep)
+			}
+			got := tree(t, out)
+			for _, name := range []string{CompareCSV, CompareMD, CompareXLSX, RowsFile} {
+				if !bytes.Equal(got[name], want[name]) {
+					t.Errorf("%s: merged %s differs from the unsharded one", tc.name, name)
+				}
+			}
+		})
+	}
+	// The shared folder holds the same scenario outputs as the unsharded sweep (plan.yaml and
+	// inputs.sha256 name files relative to the output folder, which sits elsewhere).
+	sh := tree(t, shared)
+	for name, data := range want {
+		base := filepath.Base(name)
+		if strings.Contains(name, "/") && base != PlanFile && base != InputsFile && !bytes.Equal(sh[name], data) {
+			t.Errorf("shared shard folder: %s differs", name)
+		}
+	}
+	// Merging into the shared folder itself works too.
+	if _, err := Merge([]string{shared}, shared); err != nil {
+		t.Errorf("merge into a shard folder: %v", err)
+	}
+
+	t.Run("missing shard", func(t *testing.T) {
+		_, err := Merge(dirs[:2], filepath.Join(t.TempDir(), "m"))
+		if !errors.Is(err, ErrMerge) || !strings.Contains(err.Error(), "2 of 6 scenarios missing: #2, #5") {
+			t.Errorf("got %v, want missing #2, #5", err)
+		}
+	})
+	t.Run("other sweep", func(t *testing.T) {
+		other := t.TempDir()
+		run(t, parseInline(t, "cases: [{name: base}]"), Options{Out: other})
+		_, err := Merge(append([]string{other}, dirs...), filepath.Join(t.TempDir(), "m"))
+		if !errors.Is(err, ErrMerge) || !strings.Contains(err.Error(), "rows of another sweep") {
+			t.Errorf("got %v, want rows of another sweep", err)
+		}
+	})
+	t.Run("not a sweep folder", func(t *testing.T) {
+		_, err := Merge([]string{t.TempDir()}, filepath.Join(t.TempDir(), "m"))
+		if !errors.Is(err, ErrMerge) || !strings.Contains(err.Error(), "no rows file") {
+			t.Errorf("got %v, want no rows file", err)
+		}
+	})
+}
+
+func TestCancel(t *testing.T) {
+	t.Parallel()
+	f := load(t, "sweep.yaml")
+	dir := t.TempDir()
+	ctx, cancel := context.WithCancel(context.Background())
+	defer cancel()
+	_, err := Run(ctx, f, Options{Out: dir, Jobs: 2, Progress: func(p Progress) {
+		if p.Done == 3 {
+			cancel()
+		}
+	}})
+	if !errors.Is(err, context.Canceled) {
+		t.Fatalf("got %v, want context.Canceled", err)
+	}
+	ents, err := os.ReadDir(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	complete := 0
+	for _, e := range ents {
+		n := e.Name()
+		if strings.Contains(n, ".tmp-") || !e.IsDir() {
+			t.Errorf("left after cancel: %s", n)
+			continue
+		}
+		files := tree(t, filepath.Join(dir, n))
+		_, failed := files[ErrorFile]
+		_, planned := files[SummaryFile]
+		_, inputs := files[InputsFile]
+		_, routes := files["routes.geojson"]
+		if _, plan := files[PlanFile]; !plan || !(failed || planned && inputs && routes) {
+			t.Errorf("%s: incomplete scenario folder: %d files", n, len(files))
+		}
+		complete++
+	}
+	if complete < 3 || complete == len(f.Scenarios()) {
+		t.Errorf("got %d scenario folders, want at least the 3 finished and not all %d", complete, len(f.Scenarios()))
+	}
+	// Resuming finishes the sweep and keeps what was done.
+	rep := run(t, f, Options{Out: dir, Jobs: 2, Resume: true})
+	if rep.Skipped < 2 || rep.OK+rep.Infeasible+rep.Failed != len(f.Scenarios()) {
+		t.Errorf("resume after cancel: %+v", rep)
+	}
+}
+
+func TestCompareXLSX(t *testing.T) {
+	t.Parallel()
+	f := load(t, "small.yaml")
+	dir := t.TempDir()
+	run(t, f, Options{Out: dir, Jobs: 2})
+	h, rows, err := readRows(filepath.Join(dir, RowsFile))
+	if err != nil || len(rows) != 6 || h.Scenarios != 6 {
+		t.Fatalf("rows.jsonl: %d rows, %+v, %v", len(rows), h, err)
+	}
+	x, err := excelize.OpenFile(filepath.Join(dir, CompareXLSX))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer x.Close()
+	all, err := x.GetRows("scenarios", excelize.Options{RawCellValue: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	head := all[0]
+	col := func(name string) int {
+		for i, h := range head {
+			if h == name {
+				return i
+			}
+		}
+		t.Fatalf("no column %q in %v", name, head)
+		return -1
+	}
+	cur := rows[0].Currency
+	if cur == "" {
+		t.Fatal("the demo's price book gives no currency")
+	}
+	cost, status, pareto, rank := col("total cost ("+cur+")"), col("status"), col("pareto optimal"), col("rank by cost")
+	col("worst loss margin (dB)")
+	col("new trench (m)")
+	col("hub")
+	col("defaults.rate")
+	if len(all) != 7 {
+		t.Fatalf("got %d sheet rows, want header and 6", len(all))
+	}
+	js := judge(rows)
+	for i, r := range rows {
+		cells := all[i+1]
+		if cells[1] != r.ID || cells[status] != r.Status {
+			t.Errorf("row %d: got id %q status %q, want %q %q", i, cells[1], cells[status], r.ID, r.Status)
+		}
+		ref := func(c int) string { return cellRef(c, i+2) }
+		if r.Status == StatusFailed {
+			if len(cells) > cost && cells[cost] != "" {
+				t.Errorf("failed row %d has a cost %q", i, cells[cost])
+			}
+			continue
+		}
+		typ, _ := x.GetCellType("scenarios", ref(cost))
+		if typ != excelize.CellTypeUnset { // a number
+			t.Errorf("row %d: cost stored as %v, want a number", i, typ)
+		}
+		if want := money(r.TotalCents); strings.TrimRight(strings.TrimRight(want, "0"), ".") != strings.TrimRight(strings.TrimRight(cells[cost], "0"), ".") {
+			t.Errorf("row %d: cost %s, want %s", i, cells[cost], want)
+		}
+		if shown, _ := x.GetCellValue("scenarios", ref(cost)); shown != money(r.TotalCents) {
+			t.Errorf("row %d: cost shown as %q, want %q", i, shown, money(r.TotalCents))
+		}
+		if r.Status == StatusOK {
+			wantP := map[bool]string{true: "1", false: "0"}[js[i].pareto]
+			if cells[pareto] != wantP || cells[rank] == "" {
+				t.Errorf("row %d: pareto %q rank %q, want %q and a rank", i, cells[pareto], cells[rank], wantP)
+			}
+		}
+	}
+	// The totals sheet counts with formulas; excelize's calculator checks them.
+	checks := map[string]string{"B2": "6", "B3": "4", "B4": "1", "B5": "1"}
+	for ref, want := range checks {
+		if v, err := x.CalcCellValue("totals", ref); err != nil || v != want {
+			f, _ := x.GetCellFormula("totals", ref)
+			t.Errorf("totals!%s (%s): got %q (%v), want %s", ref, f, v, err, want)
+		}
+	}
+	var cheapest int64 = -1
+	for _, r := range rows {
+		if r.Status == StatusOK && (cheapest < 0 || r.TotalCents < cheapest) {
+			cheapest = r.TotalCents
+		}
+	}
+	if v, err := x.CalcCellValue("totals", "B7"); err != nil || v != strings.TrimSuffix(strings.TrimRight(money(cheapest), "0"), ".") && v != money(cheapest) {
+		t.Errorf("lowest cost formula: got %q (%v), want %s", v, err, money(cheapest))
+	}
+}
+
+func cellRef(col, row int) string {
+	name, _ := excelize.CoordinatesToCellName(col+1, row)
+	return name
+}
