@@ -31,6 +31,7 @@ const (
 	PriceAddedDuct     = "added-duct"     // one more duct in a new trench or bore, per metre
 	PriceLabourHour    = "labour-hour"    // one hour of labour
 	PriceTransceiver   = "transceiver"    // each: Name, the catalog application's price key
+	PricePatchCord     = "patch-cord"     // each, from a panel to the equipment: Medium (optional section, see PriceBook.Has)
 
 	RatePull        = "pull-rate"        // metres pulled per hour: Name pathway type (duct, tunnel, aerial, buried, tray)
 	RateSplice      = "splice-rate"      // splices per hour
@@ -96,6 +97,8 @@ func (k PriceKey) Path() string {
 		return "labour.hourly_rate"
 	case PriceTransceiver:
 		return "transceivers." + k.Name
+	case PricePatchCord:
+		return "patch_cords_each." + k.Medium
 	case RatePull:
 		return "labour.pull_m_per_hour." + k.Name
 	case RateSplice:
@@ -141,6 +144,23 @@ func (p *PriceBook) Price(k PriceKey) (int64, bool) {
 func (p *PriceBook) Rate(k PriceKey) (float64, bool) {
 	r, ok := p.rates[k]
 	return r, ok
+}
+
+// Has reports whether the book prices any key of item (a Price* or Rate* constant): a
+// bill of materials leaves out an optional item, such as patch cords, only when its whole
+// section is absent.
+func (p *PriceBook) Has(item string) bool {
+	for k := range p.money {
+		if k.Item == item {
+			return true
+		}
+	}
+	for k := range p.rates {
+		if k.Item == item {
+			return true
+		}
+	}
+	return false
 }
 
 // Keys returns every key the book prices, sorted by item, medium, construction, name and count.
@@ -299,6 +319,7 @@ type priceFile struct {
 	AddedDuctPerM       cents                               `yaml:"added_duct_per_m"`
 	Labour              labourYAML                          `yaml:"labour"`
 	Transceivers        map[string]cents                    `yaml:"transceivers"`
+	PatchCordsEach      map[string]cents                    `yaml:"patch_cords_each"`
 	Markups             markupsYAML                         `yaml:"markups_percent"`
 }
 
@@ -407,6 +428,9 @@ func ParsePriceBook(name string, data []byte) (*PriceBook, error) {
 	}
 	for _, m := range sortedStrings(f.TerminationEach) {
 		money(PriceKey{Item: PriceTermination, Medium: m}, f.TerminationEach[m])
+	}
+	for _, m := range sortedStrings(f.PatchCordsEach) {
+		money(PriceKey{Item: PricePatchCord, Medium: m}, f.PatchCordsEach[m])
 	}
 	if f.Pos.has("splice_tray") {
 		if c.require(f.SpliceTray.Pos, "", "each", "strands") {

@@ -1,0 +1,234 @@
+package media
+
+import (
+	"fmt"
+	"math"
+	"sort"
+	"strconv"
+)
+
+// Bill-of-materials categories, the values of Quantity.Category, in the order a BOM lists
+// them: material (cable, connectivity and its hardware), labour (installation hours),
+// construction (trench, restoration, duct and structures, labour included) and optics
+// (transceivers).
+const (
+	CategoryMaterial     = "material"
+	CategoryLabour       = "labour"
+	CategoryConstruction = "construction"
+	CategoryOptics       = "optics"
+)
+
+// Categories returns the BOM categories in listing order.
+func Categories() []string {
+	return []string{CategoryMaterial, CategoryLabour, CategoryConstruction, CategoryOptics}
+}
+
+// Units of bill-of-materials quantities.
+const (
+	UnitM    = "m"    // metres, billed to 0.1 m
+	UnitEach = "each" // a whole count
+	UnitHour = "h"    // labour hours, billed up to 0.01 h
+)
+
+// Quantity is one thing a plan needs, before pricing.
+type Quantity struct {
+	Category string // a Category* constant
+	// Item says what it is in words. Quantities with the same category, item, unit, price and
+	// rate are summed into one line.
+	Item   string
+	Unit   string   // UnitM or UnitEach: the unit of Amount
+	Amount float64  // in Unit, finite and >= 0
+	Price  PriceKey // the price per Unit, or per hour when Rate is set
+	// Rate, when set, makes the quantity labour: Amount units of work done at the book's
+	// productivity Rate per hour (a Rate* key, e.g. metres pulled per hour in a duct). The
+	// line is then billed in hours, Amount / rate rounded up to 0.01 h, at Price (normally
+	// PriceLabourHour).
+	Rate PriceKey
+}
+
+// BOMLine is one priced line of a bill of materials.
+type BOMLine struct {
+	Category string
+	Item     string // for labour, the work and the rate in words, e.g. "pull cable in duct: 1234.5 m at 60 m per hour"
+	Unit     string // UnitM, UnitEach or UnitHour
+	Price    PriceKey
+	// Quantity is what is billed, in Unit: metres rounded to 0.1 m, counts whole, hours
+	// rounded up to 0.01 h.
+	Quantity      float64
+	UnitCents     int64 // the book's price per Unit
+	ExtendedCents int64 // Quantity × UnitCents, rounded half up to a whole cent
+}
+
+// Subtotal is the sum of the extended prices of one category, in cents.
+type Subtotal struct {
+	Category string
+	Cents    int64
+}
+
+// BOM is a priced bill of materials: its lines, a subtotal per category, the markups of the
+// price book and the grand total. Money is integer cents of Currency. The totals always add
+// up: each subtotal is the sum of its category's lines, SubtotalCents the sum of the
+// subtotals, contingency and overhead are their basis points of SubtotalCents, tax its basis
+// points of subtotal plus contingency plus overhead (each rounded half away from zero with
+// ApplyBP), and TotalCents the sum of the four.
+type BOM struct {
+	Label    string // the price book's label, e.g. "demo prices, invented, not a quotation"
+	Currency string
+	Lines    []BOMLine  // by category in Categories order, then by item, unit and price key
+	Subtotal []Subtotal // one per category in Categories order, empty categories included
+
+	SubtotalCents    int64
+	ContingencyBP    int64
+	ContingencyCents int64
+	OverheadBP       int64
+	OverheadCents    int64
+	TaxBP            int64
+	TaxCents         int64 // on SubtotalCents + ContingencyCents + OverheadCents
+	TotalCents       int64
+}
+
+// CategoryCents returns the subtotal of category c, 0 for a category with no lines.
+func (b *BOM) CategoryCents(c string) int64 {
+	for _, s := range b.Subtotal {
+		if s.Category == c {
+			return s.Cents
+		}
+	}
+	return 0
+}
+
+// Largest returns up to n lines with the highest extended prices, highest first; equal
+// prices keep BOM order. Time O(L log L) for L lines.
+func (b *BOM) Largest(n int) []BOMLine {
+	lines := append([]BOMLine(nil), b.Lines...)
+	sort.SliceStable(lines, func(i, j int) bool { return lines[i].ExtendedCents > lines[j].ExtendedCents })
+	if n < len(lines) {
+		lines = lines[:max(n, 0)]
+	}
+	return lines
+}
+
+var categoryRank = map[string]int{CategoryMaterial: 0, CategoryLabour: 1, CategoryConstruction: 2, CategoryOptics: 3}
+
+type lineKey struct {
+	category, item, unit string
+	price, rate          PriceKey
+}
+
+// Bill prices quantities from the book into a BOM. It merges quantities that differ only in
+// Amount, drops those that come to nothing, and reports at once, as an *ErrorList, every
+// price or labour rate the book lacks (each a *FileError with ErrMissingPrice naming the
+// key and the path to add it at) and every malformed quantity (unknown category or unit,
+// amount not finite and >= 0, ErrBadValue). Time O(Q log Q) for Q quantities.
+func (p *PriceBook) Bill(qs []Quantity) (*BOM, error) {
+	var errs ErrorList
+	sums := map[lineKey]float64{}
+	var keys []lineKey
+	var needs []PriceKey
+	for i, q := range qs {
+		_, okCat := categoryRank[q.Category]
+		okUnit := q.Unit == UnitM || q.Unit == UnitEach
+		if !okCat || !okUnit || !finite(q.Amount) || q.Amount < 0 {
+			errs.Add(fmt.Errorf("media: bill of materials: quantity %d (%s %q): %w: want a known category and unit and an amount >= 0, got %q, %q, %g",
+				i, q.Category, q.Item, ErrBadValue, q.Category, q.Unit, q.Amount))
+			continue
+		}
+		k := lineKey{q.Category, q.Item, q.Unit, q.Price, q.Rate}
+		if _, ok := sums[k]; !ok {
+			keys = append(keys, k)
+			needs = append(needs, q.Price)
+			if q.Rate.Item != "" {
+				needs = append(needs, q.Rate)
+			}
+		}
+		sums[k] += q.Amount
+	}
+	if err := p.Check(needs); err != nil {
+		for _, e := range err.(*ErrorList).Errs {
+			errs.Add(e)
+		}
+	}
+	for _, k := range keys {
+		if r, ok := p.Rate(k.rate); k.rate.Item != "" && ok && (!finite(r) || r <= 0) {
+			errs.Add(fmt.Errorf("media: %s: rate %s: %w: want > 0, got %g", p.File, k.rate.Path(), ErrBadValue, r))
+		}
+	}
+	if err := errs.Err(); err != nil {
+		return nil, err
+	}
+	b := &BOM{Label: p.Label, Currency: p.Currency,
+		ContingencyBP: p.ContingencyBP, OverheadBP: p.OverheadBP, TaxBP: p.TaxBP}
+	for _, k := range keys {
+		amount := sums[k]
+		unitCents, _ := p.Price(k.price)
+		line := BOMLine{Category: k.category, Item: k.item, Unit: k.unit, Price: k.price, UnitCents: unitCents}
+		var hundredths int64
+		switch {
+		case k.rate.Item != "":
+			rate, _ := p.Rate(k.rate)
+			hundredths = int64(math.Ceil(amount/rate*100 - 1e-6))
+			line.Unit = UnitHour
+			line.Item = fmt.Sprintf("%s: %s at %s per hour", k.item, workAmount(amount, k.unit), workAmount(rate, k.unit))
+		case k.unit == UnitEach:
+			hundredths = 100 * int64(math.Ceil(amount-1e-9))
+		default:
+			hundredths = int64(math.Round(amount * 10)) * 10
+		}
+		if hundredths <= 0 {
+			continue
+		}
+		line.Quantity = float64(hundredths) / 100
+		line.ExtendedCents = ExtendCents(hundredths, unitCents)
+		b.Lines = append(b.Lines, line)
+	}
+	sort.Slice(b.Lines, func(i, j int) bool {
+		x, y := b.Lines[i], b.Lines[j]
+		if x.Category != y.Category {
+			return categoryRank[x.Category] < categoryRank[y.Category]
+		}
+		if x.Item != y.Item {
+			return x.Item < y.Item
+		}
+		if x.Unit != y.Unit {
+			return x.Unit < y.Unit
+		}
+		return x.Price.String() < y.Price.String()
+	})
+	b.total()
+	return b, nil
+}
+
+// ExtendCents is a quantity given in hundredths of its unit times a unit price in cents,
+// rounded half up to a whole cent: the extended price of a BOM line. A spreadsheet gets the
+// same with ROUND(quantity × unit price, 2).
+func ExtendCents(quantityHundredths, unitCents int64) int64 {
+	return ApplyBP(quantityHundredths*unitCents, 100)
+}
+
+// total fills the subtotals, markups and total from the lines.
+func (b *BOM) total() {
+	b.Subtotal = b.Subtotal[:0]
+	for _, c := range Categories() {
+		s := Subtotal{Category: c}
+		for _, l := range b.Lines {
+			if l.Category == c {
+				s.Cents += l.ExtendedCents
+			}
+		}
+		b.Subtotal = append(b.Subtotal, s)
+		b.SubtotalCents += s.Cents
+	}
+	b.ContingencyCents = ApplyBP(b.SubtotalCents, b.ContingencyBP)
+	b.OverheadCents = ApplyBP(b.SubtotalCents, b.OverheadBP)
+	b.TaxCents = ApplyBP(b.SubtotalCents+b.ContingencyCents+b.OverheadCents, b.TaxBP)
+	b.TotalCents = b.SubtotalCents + b.ContingencyCents + b.OverheadCents + b.TaxCents
+}
+
+// workAmount writes an amount of work for a labour line: metres with one decimal, counts
+// as they are.
+func workAmount(x float64, unit string) string {
+	if unit == UnitM {
+		return strconv.FormatFloat(x, 'f', 1, 64) + " m"
+	}
+	return strconv.FormatFloat(x, 'f', -1, 64)
+}

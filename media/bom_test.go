@@ -1,0 +1,185 @@
+package media
+
+import (
+	"errors"
+	"math/rand/v2"
+	"strings"
+	"testing"
+)
+
+func TestBillWorked(t *testing.T) {
+	t.Parallel()
+	p := DefaultPriceBook()
+	qs := []Quantity{
+		{Category: CategoryMaterial, Item: "cable os2 osp-loose-tube 12", Unit: UnitM, Amount: 600.02,
+			Price: PriceKey{Item: PriceCable, Medium: "os2", Construction: "osp-loose-tube", Count: 12}},
+		{Category: CategoryOptics, Item: "transceiver 10GBASE-LR", Unit: UnitEach, Amount: 2, Price: PriceKey{Item: PriceTransceiver, Name: "10GBASE-LR"}},
+		{Category: CategoryMaterial, Item: "fibre enclosure 24 ports", Unit: UnitEach, Amount: 2, Price: PriceKey{Item: PriceEnclosure, Count: 24}},
+		{Category: CategoryLabour, Item: "pull cable in duct", Unit: UnitM, Amount: 125, Price: PriceKey{Item: PriceLabourHour},
+			Rate: PriceKey{Item: RatePull, Name: "duct"}},
+		{Category: CategoryConstruction, Item: "trench in turf", Unit: UnitM, Amount: 10.26, Price: PriceKey{Item: PriceTrench, Name: "turf"}},
+		// Merged with the first line: same category, item, unit and price.
+		{Category: CategoryMaterial, Item: "cable os2 osp-loose-tube 12", Unit: UnitM, Amount: 400.02,
+			Price: PriceKey{Item: PriceCable, Medium: "os2", Construction: "osp-loose-tube", Count: 12}},
+		// Nothing to bill: dropped.
+		{Category: CategoryMaterial, Item: "splice tray", Unit: UnitEach, Amount: 0, Price: PriceKey{Item: PriceSpliceTray}},
+	}
+	b, err := p.Bill(qs)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Hand computation (computed) with the demo book's invented prices: 1000.0 m × 1.43 =
+	// 1430.00; 2 × 310.00 = 620.00; 125 m at 60 m/h = 2.0833 h, billed 2.09 h × 92.00 = 192.28;
+	// 10.3 m × 48.00 = 494.40; 2 × 45.00 = 90.00.
+	want := []struct {
+		item, unit     string
+		qty            float64
+		unitCents, ext int64
+	}{
+		{"cable os2 osp-loose-tube 12", UnitM, 1000.0, 143, 143000},
+		{"fibre enclosure 24 ports", UnitEach, 2, 31000, 62000},
+		{"pull cable in duct: 125.0 m at 60.0 m per hour", UnitHour, 2.09, 9200, 19228},
+		{"trench in turf", UnitM, 10.3, 4800, 49440},
+		{"transceiver 10GBASE-LR", UnitEach, 2, 4500, 9000},
+	}
+	if len(b.Lines) != len(want) {
+		t.Fatalf("lines: got %d %+v, want %d", len(b.Lines), b.Lines, len(want))
+	}
+	for i, w := range want {
+		l := b.Lines[i]
+		if l.Item != w.item || l.Unit != w.unit || l.Quantity != w.qty || l.UnitCents != w.unitCents || l.ExtendedCents != w.ext {
+			t.Errorf("line %d: got %q %s %v × %d = %d, want %q %s %v × %d = %d", i, l.Item, l.Unit, l.Quantity, l.UnitCents, l.ExtendedCents,
+				w.item, w.unit, w.qty, w.unitCents, w.ext)
+		}
+	}
+	// Markups of the demo book: contingency 10 %, overhead 12 % of 2826.68; tax 7.25 % of
+	// 2826.68 + 282.67 + 339.20 = 3448.55, i.e. 250.02 (computed, half away from zero).
+	checks := []struct {
+		name      string
+		got, want int64
+	}{
+		{"material", b.CategoryCents(CategoryMaterial), 205000},
+		{"labour", b.CategoryCents(CategoryLabour), 19228},
+		{"construction", b.CategoryCents(CategoryConstruction), 49440},
+		{"optics", b.CategoryCents(CategoryOptics), 9000},
+		{"subtotal", b.SubtotalCents, 282668},
+		{"contingency", b.ContingencyCents, 28267},
+		{"overhead", b.OverheadCents, 33920},
+		{"tax", b.TaxCents, 25002},
+		{"total", b.TotalCents, 369857},
+	}
+	for _, c := range checks {
+		if c.got != c.want {
+			t.Errorf("%s: got %d cents, want %d", c.name, c.got, c.want)
+		}
+	}
+	if top := b.Largest(2); len(top) != 2 || top[0].ExtendedCents != 143000 || top[1].ExtendedCents != 62000 {
+		t.Errorf("largest two: got %+v", top)
+	}
+	if b.Currency != "USD" || !strings.Contains(b.Label, "invented") {
+		t.Errorf("label and currency: got %q %q", b.Label, b.Currency)
+	}
+}
+
+// TestBillTotalsAddUp is the property that every total is the sum of its parts, on random
+// bills of materials.
+func TestBillTotalsAddUp(t *testing.T) {
+	t.Parallel()
+	p := DefaultPriceBook()
+	var priced []PriceKey
+	for _, k := range p.Keys() {
+		if !isRate(k.Item) {
+			priced = append(priced, k)
+		}
+	}
+	rates := []PriceKey{{Item: RatePull, Name: "duct"}, {Item: RateSplice}, {Item: RateTermination}, {Item: RateLossTest}}
+	rng := rand.New(rand.NewPCG(5, 17))
+	for trial := 0; trial < 300; trial++ {
+		var qs []Quantity
+		for n := rng.IntN(40); n > 0; n-- {
+			q := Quantity{Category: Categories()[rng.IntN(4)], Item: "item " + string(rune('a'+rng.IntN(8))),
+				Unit: []string{UnitM, UnitEach}[rng.IntN(2)], Amount: rng.Float64() * 5000, Price: priced[rng.IntN(len(priced))]}
+			if q.Category == CategoryLabour {
+				q.Price, q.Rate = PriceKey{Item: PriceLabourHour}, rates[rng.IntN(len(rates))]
+			}
+			qs = append(qs, q)
+		}
+		b, err := p.Bill(qs)
+		if err != nil {
+			t.Fatalf("trial %d: %v", trial, err)
+		}
+		var sum int64
+		for _, s := range b.Subtotal {
+			var lines int64
+			for _, l := range b.Lines {
+				if l.Category == s.Category {
+					lines += l.ExtendedCents
+				}
+			}
+			if lines != s.Cents {
+				t.Fatalf("trial %d: %s subtotal %d, lines sum to %d", trial, s.Category, s.Cents, lines)
+			}
+			sum += s.Cents
+		}
+		for _, l := range b.Lines {
+			if want := ExtendCents(int64(l.Quantity*100+0.5), l.UnitCents); l.ExtendedCents != want {
+				t.Fatalf("trial %d: %q: extended %d, want %d", trial, l.Item, l.ExtendedCents, want)
+			}
+		}
+		if sum != b.SubtotalCents {
+			t.Fatalf("trial %d: subtotal %d, categories sum to %d", trial, b.SubtotalCents, sum)
+		}
+		if b.ContingencyCents != ApplyBP(sum, p.ContingencyBP) || b.OverheadCents != ApplyBP(sum, p.OverheadBP) ||
+			b.TaxCents != ApplyBP(sum+b.ContingencyCents+b.OverheadCents, p.TaxBP) {
+			t.Fatalf("trial %d: markups %d %d %d on %d", trial, b.ContingencyCents, b.OverheadCents, b.TaxCents, sum)
+		}
+		if b.TotalCents != sum+b.ContingencyCents+b.OverheadCents+b.TaxCents {
+			t.Fatalf("trial %d: total %d is not the sum", trial, b.TotalCents)
+		}
+	}
+}
+
+func TestBillErrors(t *testing.T) {
+	t.Parallel()
+	book, err := ParsePriceBook("mini.yaml", []byte("label: test, invented\ncurrency: EUR\nprices_date: 2026-01-01\n"+
+		"trench_per_m: {turf: 40}\nlabour: {hourly_rate: 80}\n"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	cases := []struct {
+		name string
+		qs   []Quantity
+		want []string
+	}{
+		{"missing prices named by key", []Quantity{
+			{Category: CategoryConstruction, Item: "trench", Unit: UnitM, Amount: 3, Price: PriceKey{Item: PriceTrench, Name: "asphalt"}},
+			{Category: CategoryMaterial, Item: "cord", Unit: UnitEach, Amount: 3, Price: PriceKey{Item: PricePatchCord, Medium: "os2"}},
+			{Category: CategoryLabour, Item: "pull", Unit: UnitM, Amount: 3, Price: PriceKey{Item: PriceLabourHour}, Rate: PriceKey{Item: RatePull, Name: "duct"}},
+		}, []string{`price "trench asphalt": missing price: add trench_per_m.asphalt`, "add patch_cords_each.os2", "add labour.pull_m_per_hour.duct"}},
+		{"bad quantities", []Quantity{
+			{Category: "snacks", Item: "x", Unit: UnitM, Amount: 1, Price: PriceKey{Item: PriceTrench, Name: "turf"}},
+			{Category: CategoryMaterial, Item: "y", Unit: "furlong", Amount: 1, Price: PriceKey{Item: PriceTrench, Name: "turf"}},
+			{Category: CategoryMaterial, Item: "z", Unit: UnitM, Amount: -1, Price: PriceKey{Item: PriceTrench, Name: "turf"}},
+		}, []string{`quantity 0 (snacks "x")`, `quantity 1 (material "y")`, `quantity 2 (material "z")`}},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			_, err := book.Bill(tc.qs)
+			if err == nil {
+				t.Fatalf("%s: no error", tc.name)
+			}
+			for _, w := range tc.want {
+				if !strings.Contains(err.Error(), w) {
+					t.Errorf("%s: error %q lacks %q", tc.name, err, w)
+				}
+			}
+		})
+	}
+	_, err = book.Bill([]Quantity{{Category: CategoryMaterial, Item: "cord", Unit: UnitEach, Amount: 1, Price: PriceKey{Item: PricePatchCord, Medium: "om4"}}})
+	if !errors.Is(err, ErrMissingPrice) {
+		t.Errorf("missing price: got %v, want ErrMissingPrice", err)
+	}
+	if book.Has(PricePatchCord) || !book.Has(PriceTrench) || !DefaultPriceBook().Has(PricePatchCord) {
+		t.Errorf("Has: wrong answer for patch cords or trench")
+	}
+}
