@@ -172,7 +172,7 @@ func (p *PriceBook) Bill(qs []Quantity) (*BOM, error) {
 		case k.unit == UnitEach:
 			hundredths = 100 * int64(math.Ceil(amount-1e-9))
 		default:
-			hundredths = int64(math.Round(amount * 10)) * 10
+			hundredths = int64(math.Round(amount*10)) * 10
 		}
 		if hundredths <= 0 {
 			continue
