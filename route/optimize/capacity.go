@@ -21,11 +21,58 @@ func FillLimit(n int) float64 {
 	return FillMoreCables
 }
 
-// ductPack is the state of first-fit packing of cables into ducts of one diameter.
+// ductPack is the state of first-fit packing of cables into ducts of one diameter. A max
+// segment tree over the ducts' free room finds the first duct that takes a cable in
+// O(log ducts), which matters when thousands of cables share a duct bank.
 type ductPack struct {
 	areaMM2 float64   // one duct's internal area
 	count   []int     // cables per duct
 	used    []float64 // cable area per duct, mm²
+	seg     []float64 // seg[1] is the root; leaves seg[size+j] hold duct j's room
+	size    int
+}
+
+func (p *ductPack) room(j int) float64 { return FillLimit(p.count[j]+1)*p.areaMM2 - p.used[j] }
+
+// reset empties the packing for ducts of area areaMM2.
+func (p *ductPack) reset(areaMM2 float64) {
+	p.areaMM2, p.count, p.used = areaMM2, p.count[:0], p.used[:0]
+	for i := range p.seg {
+		p.seg[i] = math.Inf(-1)
+	}
+}
+
+func (p *ductPack) update(j int) {
+	i := p.size + j
+	p.seg[i] = p.room(j)
+	for i /= 2; i >= 1; i /= 2 {
+		m := p.seg[2*i]
+		if r := p.seg[2*i+1]; r > m {
+			m = r
+		}
+		if p.seg[i] == m {
+			break // unchanged here, so unchanged above
+		}
+		p.seg[i] = m
+	}
+}
+
+func (p *ductPack) grow() {
+	size := max(8, 2*p.size)
+	p.seg = make([]float64, 2*size)
+	for i := range p.seg {
+		p.seg[i] = math.Inf(-1)
+	}
+	p.size = size
+	for j := range p.count {
+		p.seg[size+j] = p.room(j)
+	}
+	for i := size - 1; i >= 1; i-- {
+		p.seg[i] = p.seg[2*i]
+		if r := p.seg[2*i+1]; r > p.seg[i] {
+			p.seg[i] = r
+		}
+	}
 }
 
 func circleMM2(dMM float64) float64 { return math.Pi / 4 * dMM * dMM }
@@ -33,18 +80,32 @@ func circleMM2(dMM float64) float64 { return math.Pi / 4 * dMM * dMM }
 // place puts a cable of area a into the first duct that stays within FillLimit, opening a new
 // duct when none does; it returns false when the cable does not fit even an empty duct.
 func (p *ductPack) place(a float64) bool {
-	for j := range p.count {
-		if p.used[j]+a <= FillLimit(p.count[j]+1)*p.areaMM2+1e-9 {
-			p.count[j]++
-			p.used[j] += a
-			return true
+	const eps = 1e-9
+	if p.size > 0 && p.seg[1]+eps >= a {
+		i := 1
+		for i < p.size {
+			if p.seg[2*i]+eps >= a {
+				i = 2 * i
+			} else {
+				i = 2*i + 1
+			}
 		}
+		j := i - p.size
+		p.count[j]++
+		p.used[j] += a
+		p.update(j)
+		return true
 	}
-	if a > FillOneCable*p.areaMM2+1e-9 {
+	if a > FillOneCable*p.areaMM2+eps {
 		return false
 	}
 	p.count = append(p.count, 1)
 	p.used = append(p.used, a)
+	if len(p.count) > p.size {
+		p.grow()
+	} else {
+		p.update(len(p.count) - 1)
+	}
 	return true
 }
 
@@ -54,7 +115,8 @@ func (p *ductPack) place(a float64) bool {
 // First-fit in a fixed order is a packing rule, not an optimal bin packing: it may use a duct
 // more than the best arrangement would.
 func NFPAFits(ductIDMM float64, cableODsMM []float64, ducts int) bool {
-	p := ductPack{areaMM2: circleMM2(ductIDMM)}
+	var p ductPack
+	p.reset(circleMM2(ductIDMM))
 	for _, od := range cableODsMM {
 		if !p.place(circleMM2(od)) || len(p.count) > ducts {
 			return false
@@ -67,7 +129,6 @@ func NFPAFits(ductIDMM float64, cableODsMM []float64, ducts int) bool {
 type capacity struct {
 	edges []Edge
 	fits  FitsFunc // nil: the NFPA first-fit rule, computed in one pass
-	buf   []float64
 }
 
 // needed returns how many ducts must be added to edge e for cables of the given ODs, pulled
@@ -87,12 +148,12 @@ func (c *capacity) needed(e int, ods []float64, pack *ductPack) (added int, ok b
 		if pack != nil {
 			p = pack
 		}
-		p.areaMM2, p.count, p.used = circleMM2(ed.DuctIDMM), p.count[:0], p.used[:0]
+		p.reset(circleMM2(ed.DuctIDMM))
 		for _, od := range ods {
 			if od <= 0 {
 				continue
 			}
-			if !p.place(circleMM2(od)) {
+			if !p.place(math.Pi / 4 * od * od) {
 				return 0, false
 			}
 		}
@@ -113,13 +174,19 @@ func (c *capacity) needed(e int, ods []float64, pack *ductPack) (added int, ok b
 // allowedArea returns the cables' area and the NFPA area allowed in the ducts they occupy,
 // packing first-fit in order, in mm².
 func allowedArea(ductIDMM float64, ods []float64) (usedMM2, allowedMM2 float64) {
-	p := ductPack{areaMM2: circleMM2(ductIDMM)}
+	var p ductPack
+	p.reset(circleMM2(ductIDMM))
 	for _, od := range ods {
 		a := circleMM2(od)
 		usedMM2 += a
 		if od > 0 && !p.place(a) {
-			p.count = append(p.count, 1)
+			p.count = append(p.count, 1) // too wide for any duct: counted as its own
 			p.used = append(p.used, a)
+			if len(p.count) > p.size {
+				p.grow()
+			} else {
+				p.update(len(p.count) - 1)
+			}
 		}
 	}
 	for _, n := range p.count {

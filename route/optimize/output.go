@@ -7,6 +7,7 @@ import (
 
 // solution turns the final state into a Solution, splitting the cost per demand.
 func (sv *solver) solution() *Solution {
+	sv.flush()
 	p, st := sv.p, sv.st
 	sol := &Solution{Routes: make([]Route, len(p.Demands)), Rounds: sv.rounds}
 	for d := range p.Demands {

@@ -32,6 +32,8 @@ import (
 // maxPairTries bounds the Suurballe runs of one group-aware pair search.
 const maxPairTries = 6
 
+var dbgCalls, dbgConf, dbgRuns int
+
 // pair returns demand d's best diverse pair for option o against the current state, legs
 // oriented free end → anchor, with their marginal weight. With mix false only the cost
 // weights are tried; fits reports then whether a pair was found but exceeds the reach (so
@@ -40,9 +42,13 @@ func (sv *solver) pair(d, o int, mix bool) (legs [2][]Hop, weight int64, ok, too
 	s, t := sv.from[d], sv.to[d]
 	limit := sv.reach[d][o]
 	prof := sv.optProf[d][o]
+	weight = math.MaxInt64
+	lt := sv.lenTree(t, sv.profiles[prof].exclude)
+	if lt.dist[s] < 0 || lt.dist[s] > limit {
+		return legs, weight, false, false
+	}
 	w := sv.weightFor(d, o)
 	hc := treeH(sv.costTree(t, prof))
-	weight = math.MaxInt64
 	try := func(wt func(e int32) (int64, bool), h heuristic[int64]) (ratio float64) {
 		cand, found := sv.groupPair(s, t, wt, h)
 		if !found {
@@ -55,6 +61,7 @@ func (sv *solver) pair(d, o int, mix bool) (legs [2][]Hop, weight int64, ok, too
 		}
 		if l0 > limit || l1 > limit {
 			tooLong = true
+			sv.plainW = c0 + c1
 		} else if c0+c1 < weight {
 			legs, weight, ok = cand, c0+c1, true
 		}
@@ -62,6 +69,9 @@ func (sv *solver) pair(d, o int, mix bool) (legs [2][]Hop, weight int64, ok, too
 	}
 	ratio := try(w, hc)
 	if ok || !mix || limit >= unlimitedMM {
+		if tooLong && !ok {
+			weight = sv.plainW // the cheapest pair ignoring reach: a bound for the reach scan
+		}
 		return legs, weight, ok, tooLong && !ok
 	}
 	if ratio <= 0 {
@@ -79,7 +89,6 @@ func (sv *solver) pair(d, o int, mix bool) (legs [2][]Hop, weight int64, ok, too
 			return legs, weight, ok, false
 		}
 	}
-	lt := sv.lenTree(t, sv.profiles[prof].exclude)
 	try(func(e int32) (int64, bool) {
 		if _, okw := w(e); !okw {
 			return 0, false
@@ -139,6 +148,8 @@ func (sv *solver) groupPair(s, t int, wt func(e int32) (int64, bool), h heuristi
 		return wt(e)
 	}
 	sv.block(nil)
+	dbgCalls++
+	dbgRuns++
 	res := disjointPair(sv.ps, s, t, blocked, h)
 	if !res.ok {
 		return [2][]Hop{}, false
@@ -146,6 +157,7 @@ func (sv *solver) groupPair(s, t int, wt func(e int32) (int64, bool), h heuristi
 	if sv.sharedGroup(res.legs) == 0 {
 		return res.legs, true
 	}
+	dbgConf++
 	var best [2][]Hop
 	bestW := int64(math.MaxInt64)
 	consider := func(legs [2][]Hop) {
@@ -187,6 +199,7 @@ func (sv *solver) groupPair(s, t int, wt func(e int32) (int64, bool), h heuristi
 			}
 			sv.block(bl)
 			r := disjointPair(sv.ps, s, t, blocked, h)
+			dbgRuns++
 			tries++
 			if !r.ok {
 				continue

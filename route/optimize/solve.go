@@ -56,13 +56,20 @@ type choice struct {
 
 type state struct {
 	ch       []choice
-	count    []int32    // cables per edge
-	users    [][]int32  // per tracked edge (proposed or limited): demands using it, ascending
-	added    []int      // per limited edge: ducts added
-	over     []bool     // per limited edge: cables do not fit
-	packs    []ductPack // per limited edge: NFPA first-fit packing of its users (nil Fits only)
-	sig      []uint64   // per demand: hash of its choice, for skipping moves already tried
-	total    int64      // plan cost in cents (without construction and ducts for the length objective)
+	count    []int32     // cables per edge
+	users    [][]int32   // per tracked edge (proposed or limited): demands using it, ascending
+	added    []int       // per limited edge: ducts added
+	over     []bool      // per limited edge: cables do not fit
+	packs    []ductPack  // per limited edge: NFPA first-fit packing of its users (nil Fits only)
+	sig      []uint64    // per demand: hash of its choice, for skipping moves already tried
+	ods      [][]float64 // per limited edge: cable ODs of users, parallel to users
+	hsh      []uint64    // per limited edge: set hash of its (demand, OD) pairs
+	packH    []uint64    // per limited edge: the hash its packing was computed for
+	alt      []packState // per limited edge: the packing before the last flush
+	dirty    []int32     // limited edges touched since the last flush
+	isDirty  []bool
+	free     []float64 // per limited edge: largest cable area it takes without a new duct, mm²
+	total    int64     // plan cost in cents (without construction and ducts for the length objective)
 	totalMM  int64
 	overfull int
 	unrouted int
@@ -127,14 +134,17 @@ type solver struct {
 	blk     []uint32 // edges blocked for the current pair search
 	blkSt   uint32
 
-	srch  *search[int64]
-	rc    *rcspScratch
-	ps    *pairScratch
-	pen   []int64
-	penOK []bool
-	penSt []uint32
-	penN  uint32
-	odBuf []float64
+	srch   *search[int64]
+	rc     *rcspScratch
+	ps     *pairScratch
+	pen    []int64
+	penOK  []bool
+	penSt  []uint32
+	penN   uint32
+	odBuf  []float64
+	self   []uint32 // edges of the demand being estimated in place (see estimate)
+	selfSt uint32
+	plainW int64 // weight of the last pair found too long for its reach
 }
 
 func newSolver(p *Problem, opt Settings) *solver {
@@ -149,7 +159,7 @@ func newSolver(p *Problem, opt Settings) *solver {
 		cap:    capacity{edges: p.Edges, fits: p.Fits},
 		forbid: make([]bool, ne), phantom: make([]bool, ne), blk: make([]uint32, ne),
 		srch: newSearch[int64](net), rc: newRCSPScratch(net), ps: newPairScratch(net),
-		pen: make([]int64, ne), penOK: make([]bool, ne), penSt: make([]uint32, ne),
+		pen: make([]int64, ne), penOK: make([]bool, ne), penSt: make([]uint32, ne), self: make([]uint32, ne),
 	}
 	if sv.maxRounds == 0 {
 		sv.maxRounds = DefaultMaxRounds
@@ -276,10 +286,16 @@ func (sv *solver) lenTree(anchor int, exclude uint64) *tree {
 func newState(sv *solver) *state {
 	ne, nd := len(sv.p.Edges), len(sv.p.Demands)
 	st := &state{ch: make([]choice, nd), count: make([]int32, ne), users: make([][]int32, ne),
-		added: make([]int, ne), over: make([]bool, ne), packs: make([]ductPack, ne), sig: make([]uint64, nd)}
+		added: make([]int, ne), over: make([]bool, ne), packs: make([]ductPack, ne), sig: make([]uint64, nd),
+		ods: make([][]float64, ne), hsh: make([]uint64, ne), packH: make([]uint64, ne),
+		alt: make([]packState, ne), isDirty: make([]bool, ne), free: make([]float64, ne)}
 	for e := range st.packs {
 		if sv.limited[e] {
-			st.packs[e].areaMM2 = circleMM2(sv.p.Edges[e].DuctIDMM)
+			st.packs[e].reset(circleMM2(sv.p.Edges[e].DuctIDMM))
+			st.free[e] = math.Inf(-1)
+			if sv.p.Edges[e].Ducts > 0 {
+				st.free[e] = FillOneCable * st.packs[e].areaMM2
+			}
 		}
 	}
 	for d := range st.ch {
@@ -293,15 +309,73 @@ func (st *state) key() key { return key{st.overfull, st.unrouted, st.unmet, st.t
 
 func (sv *solver) od(d, o int) float64 { return sv.p.Demands[d].Options[o].CableODMM }
 
-// refreshDucts recomputes the ducts edge e needs for its users and updates the total.
-func (sv *solver) refreshDucts(e int) {
+// Duct packings are computed lazily. add and remove only update an edge's users and a set
+// hash of its (demand, cable OD) pairs; key flushes the edges whose hash differs from the one
+// their packing was computed for. A reroute that keeps its route therefore costs nothing here,
+// and a move that is reverted swaps back the previous packing (kept per edge) in O(1), instead
+// of repacking every cable of a duct bank that thousands of cables share. Searches in between
+// read the packing as last flushed, which is one more reason their duct penalties are estimates.
+
+// packState is a saved packing and its outcome.
+type packState struct {
+	count []int
+	used  []float64
+	seg   []float64
+	size  int
+	added int
+	ok    bool
+	h     uint64
+	valid bool
+}
+
+func itemHash(d int, od float64) uint64 { return mix(uint64(d)+1, math.Float64bits(od)) }
+
+// touch records that demand d's cable (od) joined or left limited edge e.
+func (sv *solver) touch(e, d int, od float64) {
 	st := sv.st
-	ods := sv.odBuf[:0]
-	for _, u := range st.users[e] {
-		ods = append(ods, sv.od(int(u), st.ch[u].opt))
+	st.hsh[e] ^= itemHash(d, od)
+	if !st.isDirty[e] {
+		st.isDirty[e] = true
+		st.dirty = append(st.dirty, int32(e))
 	}
-	sv.odBuf = ods
-	added, ok := sv.cap.needed(e, ods, &st.packs[e])
+}
+
+// flush brings the packing of every touched edge up to date.
+func (sv *solver) flush() {
+	st := sv.st
+	for _, e32 := range st.dirty {
+		e := int(e32)
+		st.isDirty[e] = false
+		if st.hsh[e] == st.packH[e] {
+			continue
+		}
+		cur, alt := &st.packs[e], &st.alt[e]
+		swapWith := alt.valid && alt.h == st.hsh[e]
+		// Exchange the current packing with the saved one.
+		cur.count, alt.count = alt.count, cur.count
+		cur.used, alt.used = alt.used, cur.used
+		cur.seg, alt.seg = alt.seg, cur.seg
+		cur.size, alt.size = alt.size, cur.size
+		added, ok := alt.added, alt.ok
+		alt.added, alt.ok, alt.h, alt.valid = st.added[e], !st.over[e], st.packH[e], true
+		if !swapWith {
+			added, ok = sv.cap.needed(e, st.ods[e], cur)
+		}
+		st.packH[e] = st.hsh[e]
+		sv.applyDucts(e, added, ok)
+	}
+	st.dirty = st.dirty[:0]
+}
+
+// key flushes the packings and returns the plan's objective key.
+func (sv *solver) key() key {
+	sv.flush()
+	return sv.st.key()
+}
+
+// applyDucts records edge e's new duct count and fit and updates the total.
+func (sv *solver) applyDucts(e, added int, ok bool) {
+	st := sv.st
 	if !ok {
 		added = st.added[e]
 	}
@@ -317,19 +391,14 @@ func (sv *solver) refreshDucts(e int) {
 		st.total += int64(added-st.added[e]) * sv.ductCent[e]
 	}
 	st.added[e] = added
-}
-
-func insertSorted(s []int32, v int32) []int32 {
-	i, _ := slices.BinarySearch(s, v)
-	return slices.Insert(s, i, v)
-}
-
-func removeSorted(s []int32, v int32) []int32 {
-	i, found := slices.BinarySearch(s, v)
-	if !found {
-		panic("optimize: demand missing from an edge's users")
+	pk := &st.packs[e]
+	st.free[e] = math.Inf(-1)
+	if pk.size > 0 {
+		st.free[e] = pk.seg[1]
 	}
-	return slices.Delete(s, i, i+1)
+	if len(pk.count) < sv.p.Edges[e].Ducts+added {
+		st.free[e] = max(st.free[e], FillOneCable*pk.areaMM2)
+	}
 }
 
 // mix is a 64-bit hash step (SplitMix64 finaliser).
@@ -370,9 +439,11 @@ func (sv *solver) add(d int, c choice) {
 				st.total += sv.fixedE[e]
 			}
 			if sv.tracked[e] {
-				st.users[e] = insertSorted(st.users[e], int32(d))
+				i, _ := slices.BinarySearch(st.users[e], int32(d))
+				st.users[e] = slices.Insert(st.users[e], i, int32(d))
 				if sv.limited[e] {
-					sv.refreshDucts(e)
+					st.ods[e] = slices.Insert(st.ods[e], i, sv.od(d, c.opt))
+					sv.touch(e, d, sv.od(d, c.opt))
 				}
 			}
 		}
@@ -393,9 +464,14 @@ func (sv *solver) remove(d int) choice {
 				st.total -= sv.fixedE[e]
 			}
 			if sv.tracked[e] {
-				st.users[e] = removeSorted(st.users[e], int32(d))
+				i, found := slices.BinarySearch(st.users[e], int32(d))
+				if !found {
+					panic("optimize: demand missing from an edge's users")
+				}
+				st.users[e] = slices.Delete(st.users[e], i, i+1)
 				if sv.limited[e] {
-					sv.refreshDucts(e)
+					st.ods[e] = slices.Delete(st.ods[e], i, i+1)
+					sv.touch(e, d, sv.od(d, c.opt))
 				}
 			}
 		}
@@ -415,44 +491,42 @@ func (sv *solver) remove(d int) choice {
 // Pulling last is an approximation when d is not the last user in demand order (the packing
 // follows demand order): the search uses it to stay O(ducts) per edge, and add and remove
 // then account the exact duct count, so a move is judged on the exact cost.
-func (sv *solver) penalty(d, o int, e int32) (int64, bool) {
+func (sv *solver) penalty(d, o int, e int32, areaMM2 float64) (int64, bool) {
+	st := sv.st
+	if sv.cap.fits == nil {
+		var pen int64
+		switch {
+		case areaMM2 <= st.free[e]+1e-9:
+			return 0, true
+		case sv.p.Edges[e].AddDuctPerMCents > 0 && areaMM2 <= FillOneCable*st.packs[e].areaMM2+1e-9:
+			pen = sv.ductCent[e]
+		default:
+			return 0, false
+		}
+		if sv.length {
+			pen = 0
+		}
+		return pen, true
+	}
 	if sv.penSt[e] == sv.penN {
 		return sv.pen[e], sv.penOK[e]
 	}
-	st := sv.st
 	ed := &sv.p.Edges[e]
-	od := sv.od(d, o)
 	var pen int64
 	ok := true
 	avail := ed.Ducts + st.added[e]
-	if od > 0 && sv.cap.fits == nil {
-		pk := &st.packs[e]
-		a := circleMM2(od)
-		room := len(pk.count) < avail && a <= FillOneCable*pk.areaMM2+1e-9
-		for j := 0; j < len(pk.count) && !room; j++ {
-			room = pk.used[j]+a <= FillLimit(pk.count[j]+1)*pk.areaMM2+1e-9
-		}
-		switch {
-		case room:
-		case ed.AddDuctPerMCents > 0 && a <= FillOneCable*pk.areaMM2+1e-9:
-			pen = sv.ductCent[e]
-		default:
-			ok = false
-		}
-	} else if sv.cap.fits != nil {
-		ods := sv.odBuf[:0]
-		for _, u := range st.users[e] {
-			ods = append(ods, sv.od(int(u), st.ch[u].opt))
-		}
-		ods = append(ods, od)
-		sv.odBuf = ods
-		switch {
-		case sv.cap.fits(int(e), ods, avail):
-		case ed.AddDuctPerMCents > 0 && sv.cap.fits(int(e), ods, avail+1):
-			pen = sv.ductCent[e]
-		default:
-			ok = false
-		}
+	ods := sv.odBuf[:0]
+	for _, u := range st.users[e] {
+		ods = append(ods, sv.od(int(u), st.ch[u].opt))
+	}
+	ods = append(ods, sv.od(d, o))
+	sv.odBuf = ods
+	switch {
+	case sv.cap.fits(int(e), ods, avail):
+	case ed.AddDuctPerMCents > 0 && sv.cap.fits(int(e), ods, avail+1):
+		pen = sv.ductCent[e]
+	default:
+		ok = false
 	}
 	if sv.length {
 		pen = 0
@@ -472,16 +546,17 @@ func (sv *solver) weightFor(d, o int) func(e int32) (int64, bool) {
 	}
 	base := sv.profBase[sv.optProf[d][o]]
 	st := sv.st
+	area := circleMM2(sv.od(d, o))
 	return func(e int32) (int64, bool) {
 		b := base[e]
 		if b < 0 || sv.forbid[e] {
 			return 0, false
 		}
-		if fx := sv.fixedE[e]; fx > 0 && st.count[e] == 0 && !sv.phantom[e] {
+		if fx := sv.fixedE[e]; fx > 0 && (st.count[e] == 0 || (st.count[e] == 1 && sv.self[e] == sv.selfSt)) && !sv.phantom[e] {
 			b += fx
 		}
 		if sv.limited[e] {
-			pen, ok := sv.penalty(d, o, e)
+			pen, ok := sv.penalty(d, o, e, area)
 			if !ok {
 				return 0, false
 			}
@@ -497,10 +572,10 @@ func (sv *solver) route(d, o int) ([]Hop, int64, bool) {
 	s, t := sv.from[d], sv.to[d]
 	prof := sv.optProf[d][o]
 	tr := sv.costTree(t, prof)
-	if tr.dist[s] < 0 {
+	limit := sv.reach[d][o]
+	if lt := sv.lenTree(t, sv.profiles[prof].exclude); tr.dist[s] < 0 || lt.dist[s] > limit {
 		return nil, 0, false
 	}
-	limit := sv.reach[d][o]
 	w := sv.weightFor(d, o)
 	base := sv.profBase[prof]
 	// The lower-bound tree path is optimal when every edge on it costs only its base weight.
@@ -629,6 +704,11 @@ func (sv *solver) best(d int) choice {
 			if ok {
 				consider(x.opt, legs[:], w)
 			} else if tooLong {
+				// The cheapest pair, too long, bounds every pair within reach from below.
+				x.lb = max(x.lb, w+dm.Options[x.opt].FixedCents)
+				if sv.length {
+					x.lb = 0
+				}
 				retry = append(retry, x)
 			}
 		}
@@ -667,10 +747,10 @@ func (sv *solver) reroute(d int) bool {
 	if sv.invalid[d] != "" {
 		return false
 	}
-	before := sv.st.key()
+	before := sv.key()
 	old := sv.remove(d)
 	sv.add(d, sv.best(d))
-	if sv.st.key().less(before) {
+	if sv.key().less(before) {
 		return true
 	}
 	sv.remove(d)
@@ -690,7 +770,7 @@ func (sv *solver) rerouteAll(ds []int32, before key) bool {
 }
 
 func (sv *solver) keepOrRevert(ds []int32, olds []choice, before key) bool {
-	if sv.st.key().less(before) {
+	if sv.key().less(before) {
 		return true
 	}
 	for i := len(ds) - 1; i >= 0; i-- {
@@ -719,7 +799,7 @@ func (sv *solver) closeMoves() bool {
 		if f, ok := sv.failedClose[e]; ok && f == sig {
 			continue
 		}
-		before := st.key()
+		before := sv.key()
 		sv.forbid[e] = true
 		olds := make([]choice, 0, len(users))
 		var done []int32
@@ -727,7 +807,7 @@ func (sv *solver) closeMoves() bool {
 			olds = append(olds, sv.remove(int(d)))
 			sv.add(int(d), sv.best(int(d)))
 			done = append(done, d)
-			if k := st.key(); k.overfull == before.overfull && k.unrouted == before.unrouted &&
+			if k := sv.key(); k.overfull == before.overfull && k.unrouted == before.unrouted &&
 				k.unmet == before.unmet && st.count[e] > 0 && k.total-before.total > sv.fixedE[e] {
 				break
 			}
@@ -861,6 +941,54 @@ func (sv *solver) saveBound(d int) int64 {
 	return max(0, cur-lb)
 }
 
+// estimate returns how much demand d would save by rerouting under the current move (phantom
+// and forbidden edges), computed without taking d out of the plan: an edge only d uses is
+// charged as unopened, and the duct penalties count d's own cable, so it is an estimate used to
+// screen moves before they are tried for real. It never changes the plan.
+func (sv *solver) estimate(d int) int64 {
+	st := sv.st
+	c := st.ch[d]
+	if c.opt < 0 || sv.invalid[d] != "" {
+		return 0
+	}
+	sv.selfSt++
+	if sv.selfSt == 0 {
+		clear(sv.self)
+		sv.selfSt = 1
+	}
+	for _, leg := range c.legs {
+		for _, h := range leg {
+			sv.self[h.Edge] = sv.selfSt
+		}
+	}
+	dm := &sv.p.Demands[d]
+	w := sv.weightFor(d, c.opt)
+	cur := dm.Options[c.opt].FixedCents
+	for _, leg := range c.legs {
+		for _, h := range leg {
+			we, ok := w(int32(h.Edge))
+			if !ok {
+				we = math.MaxInt64 / 8 // forbidden by the move: leaving it is a must
+			}
+			cur += we
+		}
+	}
+	nb := sv.best(d)
+	sv.selfSt++ // end the in-place view
+	if nb.opt < 0 || (dm.Diverse && len(nb.legs) < len(c.legs)) {
+		return 0
+	}
+	nw := sv.weightFor(d, nb.opt)
+	nc := dm.Options[nb.opt].FixedCents
+	for _, leg := range nb.legs {
+		for _, h := range leg {
+			we, _ := nw(int32(h.Edge))
+			nc += we
+		}
+	}
+	return max(0, cur-nc)
+}
+
 // openMoves tries opening each candidate run. A candidate whose affected demands could not
 // together save the FixedCents of its unopened edges (by saveBound) is skipped, and a move
 // that failed is not tried again until an affected demand changes route.
@@ -891,10 +1019,23 @@ func (sv *solver) openMoves() bool {
 		if f, ok := sv.failedOpen[k]; ok && f == sig {
 			continue
 		}
-		before := st.key()
 		for _, e := range c.edges {
 			sv.phantom[e] = true
 		}
+		var gain int64
+		for _, d := range c.affected {
+			if gain += sv.estimate(int(d)); gain > openCost {
+				break
+			}
+		}
+		if gain <= openCost {
+			for _, e := range c.edges {
+				sv.phantom[e] = false
+			}
+			sv.failedOpen[k] = sig
+			continue
+		}
+		before := sv.key()
 		olds := make([]choice, len(c.affected))
 		for i, d := range c.affected {
 			olds[i] = sv.remove(int(d))
@@ -962,10 +1103,11 @@ func (sv *solver) run() {
 	if len(sv.p.Demands)*len(sv.proposed) > maxSecondStart {
 		return
 	}
+	sv.flush()
 	first := sv.st
 	sv.start(true)
 	sv.rounds += sv.improve()
-	if !sv.st.key().less(first.key()) {
+	if !sv.key().less(first.key()) {
 		sv.st = first
 	}
 	if len(sv.p.Demands)*len(sv.proposed) <= maxKickWork {
@@ -1016,7 +1158,7 @@ func (sv *solver) kicks() {
 			}
 		}
 		for _, k := range ks {
-			before := sv.st.key()
+			before := sv.key()
 			saved := slices.Clone(sv.st.ch)
 			for _, e := range k.open {
 				sv.phantom[e] = true
@@ -1036,7 +1178,7 @@ func (sv *solver) kicks() {
 				sv.forbid[k.close] = false
 			}
 			sv.rounds += sv.improve()
-			if sv.st.key().less(before) {
+			if sv.key().less(before) {
 				improved = true
 				continue
 			}
