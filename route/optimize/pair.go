@@ -32,8 +32,6 @@ import (
 // maxPairTries bounds the Suurballe runs of one group-aware pair search.
 const maxPairTries = 6
 
-var dbgCalls, dbgConf, dbgRuns int
-
 // pair returns demand d's best diverse pair for option o against the current state, legs
 // oriented free end → anchor, with their marginal weight. With mix false only the cost
 // weights are tried; fits reports then whether a pair was found but exceeds the reach (so
@@ -148,8 +146,6 @@ func (sv *solver) groupPair(s, t int, wt func(e int32) (int64, bool), h heuristi
 		return wt(e)
 	}
 	sv.block(nil)
-	dbgCalls++
-	dbgRuns++
 	res := disjointPair(sv.ps, s, t, blocked, h)
 	if !res.ok {
 		return [2][]Hop{}, false
@@ -157,7 +153,6 @@ func (sv *solver) groupPair(s, t int, wt func(e int32) (int64, bool), h heuristi
 	if sv.sharedGroup(res.legs) == 0 {
 		return res.legs, true
 	}
-	dbgConf++
 	var best [2][]Hop
 	bestW := int64(math.MaxInt64)
 	consider := func(legs [2][]Hop) {
@@ -199,7 +194,6 @@ func (sv *solver) groupPair(s, t int, wt func(e int32) (int64, bool), h heuristi
 			}
 			sv.block(bl)
 			r := disjointPair(sv.ps, s, t, blocked, h)
-			dbgRuns++
 			tries++
 			if !r.ok {
 				continue
