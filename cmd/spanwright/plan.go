@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"io/fs"
+	"path/filepath"
 
 	"github.com/urfave/cli/v2"
 
@@ -19,6 +20,9 @@ func planCommand() *cli.Command {
 		Flags: []cli.Flag{
 			&cli.PathFlag{Name: "out", Usage: "output folder", Required: true, TakesFile: true},
 			unitsFlag,
+			&cli.PathFlag{Name: "catalog", Usage: "media catalog YAML, instead of the plan's catalog: or the embedded one", TakesFile: true},
+			&cli.PathFlag{Name: "rules", Usage: "media rule YAML, instead of the plan's rules: or the embedded one", TakesFile: true},
+			&cli.PathFlag{Name: "prices", Usage: "price book YAML, instead of the plan's prices: or the embedded demo book", TakesFile: true},
 		},
 		Action: func(c *cli.Context) error {
 			opt, err := writeOptions(c)
@@ -32,6 +36,7 @@ func planCommand() *cli.Command {
 			if err != nil {
 				return err
 			}
+			overrideFiles(p, c.Path("catalog"), c.Path("rules"), c.Path("prices"))
 			return runPlan(c.Context, nil, p, c.Path("out"), opt, c.App.Writer)
 		},
 	}
@@ -55,4 +60,22 @@ func runPlan(ctx context.Context, fsys fs.FS, p *route.Plan, out string, opt rou
 	}
 	fmt.Fprintf(w, "outputs written to %s\n", out)
 	return res.Infeasible()
+}
+
+// overrideFiles points the plan at the files named on the command line; they are relative
+// to the working folder, not to the plan.
+func overrideFiles(p *route.Plan, catalog, rules, prices string) {
+	for _, o := range []struct {
+		flag string
+		dst  *string
+	}{{catalog, &p.Catalog}, {rules, &p.Rules}, {prices, &p.Prices}} {
+		if o.flag == "" {
+			continue
+		}
+		if abs, err := filepath.Abs(o.flag); err == nil {
+			*o.dst = abs
+		} else {
+			*o.dst = o.flag
+		}
+	}
 }
