@@ -1,0 +1,102 @@
+package main
+
+import (
+	"bytes"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+const sweepFixtures = "../../testdata/sweep"
+
+func TestSweepCommand(t *testing.T) {
+	t.Parallel()
+	out := t.TempDir()
+	stdout, msg, code := run(t, "sweep", filepath.Join(sweepFixtures, "small.yaml"), "--out", out, "--jobs", "2")
+	if code != exitInvalid {
+		t.Errorf("exit status: got %d, want %d (a scenario failed)\n%s", code, exitInvalid, msg)
+	}
+	for _, want := range []string{
+		"sweep: 6 scenarios: 4 ok, 1 with infeasible legs, 1 failed\n",
+		`  failed bad-hub-0d4d7434: bad-hub-0d4d7434/plan.yaml: hub: invalid plan: unknown building "NOWHERE"`,
+		filepath.Join(out, "compare.xlsx"),
+	} {
+		if !strings.Contains(stdout, want) {
+			t.Errorf("stdout lacks %q:\n%s", want, stdout)
+		}
+	}
+	if !strings.Contains(msg, "sweep: 6 scenarios in ") || !strings.Contains(msg, "some scenarios failed: 1 of 6 scenarios") {
+		t.Errorf("stderr and error: got %q, want the closing progress line and the failure", msg)
+	}
+
+	// Resume keeps everything; --quiet prints no progress.
+	stdout, msg, code = run(t, "sweep", filepath.Join(sweepFixtures, "small.yaml"), "--out", out, "--resume", "--quiet")
+	if code != exitInvalid || !strings.Contains(stdout, "(5 unchanged, kept)") || strings.Contains(msg, "per second") {
+		t.Errorf("resume: got status %d, stdout %q, stderr %q", code, stdout, msg)
+	}
+
+	// Shards and merge give the same comparison.
+	shards := t.TempDir()
+	for _, s := range []string{"1/2", "2/2"} {
+		stdout, _, code := run(t, "sweep", filepath.Join(sweepFixtures, "small.yaml"), "--out", shards, "--shard", s, "--quiet")
+		if code != exitInvalid && code != exitInfeasible && code != exitOK {
+			t.Errorf("shard %s: status %d", s, code)
+		}
+		if !strings.Contains(stdout, "shard "+s+": 3 of 6 scenarios") || !strings.Contains(stdout, "spanwright merge") {
+			t.Errorf("shard %s stdout: %q", s, stdout)
+		}
+	}
+	merged := filepath.Join(t.TempDir(), "all")
+	stdout, msg, code = run(t, "merge", shards, "--out", merged)
+	if code != exitInvalid || !strings.Contains(stdout, "sweep: 6 scenarios: 4 ok, 1 with infeasible legs, 1 failed") {
+		t.Errorf("merge: status %d, stdout %q, %s", code, stdout, msg)
+	}
+	for _, name := range []string{"compare.csv", "compare.md", "compare.xlsx", "rows.jsonl"} {
+		a, err1 := os.ReadFile(filepath.Join(out, name))
+		b, err2 := os.ReadFile(filepath.Join(merged, name))
+		if err1 != nil || err2 != nil || !bytes.Equal(a, b) {
+			t.Errorf("merged %s differs from the unsharded one (%v, %v)", name, err1, err2)
+		}
+	}
+	if _, msg, code := run(t, "merge", t.TempDir(), "--out", t.TempDir()); code != exitInvalid || !strings.Contains(msg, "no rows file") {
+		t.Errorf("merge of an empty folder: status %d, %s", code, msg)
+	}
+}
+
+func TestSweepExitStatus(t *testing.T) {
+	t.Parallel()
+	base, err := filepath.Abs("../../testdata/demo/plan.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	write := func(body string) string {
+		path := filepath.Join(t.TempDir(), "s.yaml")
+		if err := os.WriteFile(path, []byte("base: "+base+"\n"+body), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return path
+	}
+	cases := []struct {
+		name string
+		args []string
+		code int
+		want string
+	}{
+		{"all ok", []string{write("cases: [{name: base}]")}, exitOK, ""},
+		{"infeasible legs", []string{write("cases: [{name: d, defaults.redundancy: diverse}]")}, exitInfeasible, "1 of 1 scenarios have infeasible legs"},
+		{"invalid sweep file", []string{filepath.Join(sweepFixtures, "bad.yaml")}, exitInvalid, `bad.yaml:9: case "strands-text": defaults.strands: wrong type: want an integer, got "many"`},
+		{"bad shard", []string{write("cases: [{name: base}]"), "--shard", "3/2"}, exitInvalid, "--shard"},
+		{"bad jobs", []string{write("cases: [{name: base}]"), "--jobs", "0"}, exitInvalid, "--jobs"},
+		{"no sweep file", nil, exitInvalid, "name exactly one sweep file"},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			args := append([]string{"sweep", "--quiet", "--out", t.TempDir()}, tc.args...)
+			_, msg, code := run(t, args...)
+			if code != tc.code || !strings.Contains(msg, tc.want) {
+				t.Errorf("%s: got status %d, %q; want %d, %q", tc.name, code, msg, tc.code, tc.want)
+			}
+		})
+	}
+}

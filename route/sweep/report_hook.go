@@ -1,0 +1,88 @@
+package sweep
+
+import (
+	"fmt"
+	"path/filepath"
+
+	"spanwright/route"
+)
+
+// Judged is one scenario of a finished sweep with what the comparison works out across
+// scenarios (the same as the cost_rank and pareto columns of compare.csv).
+type Judged struct {
+	Row
+	// Rank is 1 for the cheapest ok scenario; equal costs share a rank and the next rank
+	// skips (1, 2, 2, 4); 0 for an infeasible or failed scenario.
+	Rank int
+	// Pareto is set on an ok scenario that no other ok scenario dominates on total cost
+	// (lower is better), worst loss margin (higher) and links missing a diverse route (fewer).
+	Pareto bool
+}
+
+// Comparison is a finished sweep's comparison: its override keys (the columns that tell
+// scenarios apart, in file order) and every scenario's row, judged, in index order.
+type Comparison struct {
+	Keys     []string
+	Rows     []Judged
+	Currency string // the currency every planned scenario shares; "" when they differ
+}
+
+// Judge ranks rows (every scenario of a sweep, in index order) and flags the Pareto-optimal
+// ones, as Compare does for compare.csv.
+func Judge(rows []Row, keys []string) *Comparison {
+	js := judge(rows)
+	c := &Comparison{Keys: append([]string(nil), keys...), Rows: make([]Judged, len(js)), Currency: currencyOf(rows)}
+	for i, j := range js {
+		c.Rows[i] = Judged{Row: *j.Row, Rank: j.rank, Pareto: j.pareto}
+	}
+	return c
+}
+
+// ReadComparison reads the rows file of a whole sweep or of a merge (rows.jsonl) in dir and
+// judges it. It fails when the file is missing, is not a rows file, or lacks a scenario.
+func ReadComparison(dir string) (*Comparison, error) {
+	path := filepath.Join(dir, RowsFile)
+	h, rs, err := readRows(path)
+	if err != nil {
+		return nil, fmt.Errorf("read comparison: %w", err)
+	}
+	rows := make([]Row, h.Scenarios)
+	seen := make([]bool, h.Scenarios)
+	for _, r := range rs {
+		rows[r.Index], seen[r.Index] = r, true
+	}
+	for i, ok := range seen {
+		if !ok {
+			return nil, fmt.Errorf("read comparison: %s: scenario %d missing", path, i)
+		}
+	}
+	return Judge(rows, h.Keys), nil
+}
+
+// CompareFunc renders more comparison files (a report) from a finished sweep's comparison.
+type CompareFunc func(*Comparison) ([]route.OutputFile, error)
+
+// CompareExtra is the hook for sweep-level files beside compare.csv: it reads the comparison
+// of the whole sweep or merge written in dir (see ReadComparison), renders it with render and
+// writes the files into dir atomically (route.WriteFiles). It returns the paths written,
+// sorted as render returned them. Run and Merge do not call it: a caller calls it after a
+// whole (unsharded) run or a merge has written rows.jsonl.
+func CompareExtra(dir string, render CompareFunc) ([]string, error) {
+	c, err := ReadComparison(dir)
+	if err != nil {
+		return nil, err
+	}
+	files, err := render(c)
+	if err != nil {
+		return nil, err
+	}
+	protect := []string{filepath.Join(dir, RowsFile)}
+	if err := route.WriteFiles(dir, files, protect); err != nil {
+		return nil, err
+	}
+	out := make([]string, len(files))
+	for i, f := range files {
+		out[i] = filepath.Join(dir, f.Name)
+	}
+	return out, nil
+}
