@@ -79,7 +79,6 @@ func Parse(name string, data []byte) (*File, error) {
 		return nil, &errs
 	}
 	root := doc.Content[0]
-	var haveVary, haveCases bool
 	for i := 0; i+1 < len(root.Content); i += 2 {
 		k, v := root.Content[i], root.Content[i+1]
 		switch k.Value {
@@ -93,10 +92,8 @@ func Parse(name string, data []byte) (*File, error) {
 				f.Base = filepath.Join(f.Dir, f.Base)
 			}
 		case "vary":
-			haveVary = true
 			f.parseVary(v, bad)
 		case "cases":
-			haveCases = true
 			f.parseCases(v, bad)
 		default:
 			bad(k.Line, "", k.Value, fmt.Errorf("%w; want base, vary or cases", ErrUnknownKey))
@@ -105,7 +102,7 @@ func Parse(name string, data []byte) (*File, error) {
 	if f.Base == "" && !hasKey(root, "base") {
 		bad(0, "", "base", fmt.Errorf("missing: name the plan file the scenarios start from"))
 	}
-	if !haveVary && !haveCases {
+	if len(errs.Errs) == 0 && len(f.Axes) == 0 && len(f.Cases) == 0 {
 		bad(0, "", "", fmt.Errorf("nothing to sweep: give vary, cases or both"))
 	}
 	if f.Base != "" {
@@ -339,7 +336,8 @@ const maxSlug = 48
 
 var nonSlug = regexp.MustCompile(`[^a-z0-9]+`)
 
-// ScenarioID returns the stable id of a scenario, used as its folder name: a readable slug,
+// ScenarioID returns the stable id of a scenario whose overrides come from a sweep file (a
+// case's, or one value of each axis), used as its folder name: a readable slug,
 // a hyphen and the first IDLen hexadecimal digits of the SHA-256 of the canonical override
 // list (one "key=value" line per override, sorted by key, each value decoded into the plan
 // setting's type and written as JSON: so "10G" and 10G, or 850000 and 850000.00, agree, and

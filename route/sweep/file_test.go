@@ -177,6 +177,7 @@ func TestParseErrors(t *testing.T) {
 		{"base missing", "base: nowhere.yaml\nvary: {hub: [ADM]}", "nowhere.yaml: no such file"},
 		{"base not a plan", "base: bad-base.yaml\nvary: {hub: [ADM]}", "bad-base.yaml: want a mapping of plan keys"},
 		{"nothing to sweep", "base: ../demo/plan.yaml", "nothing to sweep"},
+		{"empty sections", "base: ../demo/plan.yaml\nvary: {}\ncases: []", "nothing to sweep"},
 		{"unknown top key", "base: ../demo/plan.yaml\nvary: {hub: [ADM]}\nextra: 1", "x.yaml:3: extra: unknown key; want base, vary or cases"},
 		{"not a mapping", "[1, 2]", "want a mapping with base, vary and cases"},
 		{"not YAML", "base: [", "not YAML"},

@@ -284,6 +284,16 @@ func TestShardAndMerge(t *testing.T) {
 		t.Errorf("merge into a shard folder: %v", err)
 	}
 
+	t.Run("shard with no scenarios", func(t *testing.T) {
+		d := t.TempDir()
+		rep := run(t, f, Options{Out: d, Shard: Shard{7, 8}})
+		if rep.Run != 0 || rep.Err() != nil {
+			t.Errorf("shard 7/8 of 6: got %+v", rep)
+		}
+		if _, err := os.Stat(filepath.Join(d, "rows-7-of-8.jsonl")); err != nil {
+			t.Errorf("no rows file: %v", err)
+		}
+	})
 	t.Run("missing shard", func(t *testing.T) {
 		_, err := Merge(dirs[:2], filepath.Join(t.TempDir(), "m"))
 		if !errors.Is(err, ErrMerge) || !strings.Contains(err.Error(), "2 of 6 scenarios missing: #2, #5") {
