@@ -15,23 +15,30 @@ import (
 //  1. Lower bounds: one Dijkstra per (anchor node, cost profile), where the anchor is the
 //     demand end that more demands share (usually the cross-connect) and a cost profile is a
 //     distinct (cable price, excluded flags) pair, with every proposed edge free. These trees
-//     answer most searches outright and guide the others as A* heuristics.
-//  2. Two starting plans: demands routed one by one in demand order with each unopened proposed
-//     edge charged its full FixedCents (edges opened by earlier demands are free), and the same
-//     with every proposed edge free during the first pass. Each demand takes the option whose
-//     route (within reach: LARAC and an exact label search, see rcsp.go) plus option cost is
-//     cheapest, diverse demands a diverse pair (disjoint.go, pair.go).
-//  3. Local search on each start until no move lowers the cost or Settings.MaxRounds: rip up
-//     and reroute each demand against the others' plan (an edge only it uses costs its full
-//     FixedCents, so leaving it saves that); close an opened edge (forbid it, reroute its users,
-//     keep if cheaper); open a run of proposed edges that some demand's unconstrained cheapest
-//     route uses (treat it as free, reroute the demands it may help, keep if cheaper).
-//  4. The better plan is reported, with the cost split per demand.
+//     answer many searches outright and guide the others as A* heuristics.
+//  2. A starting plan: demands routed one by one in demand order with each unopened proposed
+//     edge charged its full FixedCents (edges opened by earlier demands are free). Each demand
+//     takes the option whose route (within reach: LARAC and an exact label search, see
+//     rcsp.go) plus option cost is cheapest; diverse demands take a diverse pair (disjoint.go,
+//     pair.go).
+//  3. Local search until no move lowers the cost or Settings.MaxRounds: rip up and reroute
+//     each demand against the others' plan (an edge only it uses costs its full FixedCents, so
+//     leaving it saves that); close an opened edge (forbid it, reroute its users, keep if
+//     cheaper); open a run of proposed edges that some demand's unconstrained cheapest route
+//     uses (treat it as free, reroute the demands it may help, keep if cheaper). Open moves are
+//     screened first by bounds and by an in-place estimate, and a failed move is not retried
+//     until a demand it involves changes route.
+//  4. On problems with demands × proposed edges up to maxSecondStart, a second start routes the
+//     first pass with every proposed edge free and is searched the same way; the cheaper plan
+//     is kept. Up to maxKickWork, an iterated local search then perturbs the optimum (open a
+//     run for everyone, or forbid an opened edge) and descends again, keeping improvements.
 //
 // Every move is kept only when the exact plan cost — compared lexicographically after the number
-// of capacity violations, unrouted demands and diverse demands without a pair — strictly falls,
-// so the search ends. Complexity per round is O(D) searches, each O(|E| log |V|) at worst and
-// usually far less; the exact reach search is exponential in the worst case and is capped.
+// of capacity violations, unrouted demands and diverse demands without a pair, then by total
+// metres — strictly falls, so the search ends. Searches estimate duct penalties (capacity.go,
+// penalty); the plan's cost always counts the exact duct packing. Complexity per round is O(D)
+// searches, each O(|E| log |V|) at worst and usually far less; the exact reach search is
+// exponential in the worst case and capped at maxLabels labels.
 func Solve(p *Problem, opt Settings) (*Solution, error) {
 	if err := validate(p, opt); err != nil {
 		return nil, err
@@ -974,7 +981,7 @@ func (sv *solver) estimate(d int) int64 {
 		}
 	}
 	nb := sv.best(d)
-	sv.selfSt++ // end the in-place view
+	defer func() { sv.selfSt++ }() // end the in-place view
 	if nb.opt < 0 || (dm.Diverse && len(nb.legs) < len(c.legs)) {
 		return 0
 	}
