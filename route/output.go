@@ -6,11 +6,13 @@ import (
 	"encoding/json"
 	"fmt"
 	"io"
+	"math"
 	"strconv"
 	"strings"
 
 	"spanwright/geo"
 	"spanwright/media"
+	"spanwright/media/install"
 )
 
 // Unit systems for the outputs' edges; inside, everything is metric.
@@ -24,7 +26,9 @@ const FtPerM = 1 / 0.3048
 
 // WriteOptions says how outputs are rendered.
 type WriteOptions struct {
-	Units string // UnitsMetric (default) or UnitsImperial: CSV and stdout only; JSON and GeoJSON stay metric
+	Units string // UnitsMetric (default) or UnitsImperial: CSV, XLSX and stdout only; JSON and GeoJSON stay metric
+	// SkipWorkbook leaves bom.xlsx out, for runs of many scenarios where the CSV is enough.
+	SkipWorkbook bool
 }
 
 func (o WriteOptions) imperial() bool { return o.Units == UnitsImperial }
@@ -51,11 +55,27 @@ func (r *Result) Outputs(opt WriteOptions) ([]OutputFile, error) {
 	if err != nil {
 		return nil, err
 	}
-	return []OutputFile{
+	files := []OutputFile{
 		{Name: "routes.geojson", Data: routes},
 		{Name: "links.csv", Data: links},
 		{Name: "summary.json", Data: sum},
-	}, nil
+	}
+	if r.Estimate == nil || r.Estimate.BOM == nil {
+		return files, nil
+	}
+	bom, err := r.bomCSV(opt)
+	if err != nil {
+		return nil, fmt.Errorf("bom.csv: %w", err)
+	}
+	files = append(files, OutputFile{Name: "bom.csv", Data: bom})
+	if !opt.SkipWorkbook {
+		xl, err := r.bomXLSX(opt)
+		if err != nil {
+			return nil, fmt.Errorf("bom.xlsx: %w", err)
+		}
+		files = append(files, OutputFile{Name: "bom.xlsx", Data: xl})
+	}
+	return files, nil
 }
 
 // Inputs lists the files the plan read, which outputs must never overwrite.
@@ -239,13 +259,44 @@ type Summary struct {
 	WorstMarginDB *float64       `json:"worst_margin_db"`
 	MediaMix      map[string]int `json:"media_mix"` // feasible legs per medium
 	Currency      string         `json:"currency,omitempty"`
-	TotalCents    int64          `json:"total_cents"`
-	BudgetCents   int64          `json:"budget_cents"`
+	CableM        float64        `json:"cable_m"` // cable bought, every cable of every feasible leg, waste included
+
+	// TotalCents is the bill of materials' grand total: every line, contingency, overhead
+	// and tax.
+	TotalCents  int64 `json:"total_cents"`
+	BudgetCents int64 `json:"budget_cents"`
 	// OverBudgetCents is total minus budget: positive over, negative under; 0 without a budget.
-	OverBudgetCents int64    `json:"over_budget_cents"`
-	OverBudgetPct   float64  `json:"over_budget_pct"`
-	WarningCount    int      `json:"warning_count"`
-	Warnings        []string `json:"warnings"`
+	OverBudgetCents int64   `json:"over_budget_cents"`
+	OverBudgetPct   float64 `json:"over_budget_pct"`
+	// ModelCents is the optimizer's cost model summed over the legs (cable, labour along
+	// the route, construction shares, terminations and transceivers; no markups): what the
+	// routes were chosen by, not a price.
+	ModelCents       int64            `json:"model_cents"`
+	CostByCategory   map[string]int64 `json:"cost_by_category_cents"` // BOM subtotals: material, labour, construction, optics
+	SubtotalCents    int64            `json:"subtotal_cents"`
+	ContingencyCents int64            `json:"contingency_cents"`
+	OverheadCents    int64            `json:"overhead_cents"`
+	TaxCents         int64            `json:"tax_cents"`
+	CostDrivers      []CostDriver     `json:"cost_drivers"` // the five largest BOM lines
+
+	PullSections    int `json:"pull_sections"`
+	AddedPullPoints int `json:"added_pull_points"`
+	PullsOverRating int `json:"pulls_over_rating"`
+	MidSpanSplices  int `json:"mid_span_splices"` // reel joins over all cables
+
+	WarningCount int `json:"warning_count"`
+	// WarningCounts splits WarningCount by source: network (noding), install (pulling,
+	// duct fill, bends) and budget.
+	WarningCounts map[string]int `json:"warning_counts"`
+	Warnings      []string       `json:"warnings"`
+}
+
+// CostDriver is one of the largest lines of the bill of materials.
+type CostDriver struct {
+	Category string  `json:"category"`
+	Item     string  `json:"item"`
+	Cents    int64   `json:"cents"`
+	Pct      float64 `json:"pct_of_subtotal"`
 }
 
 // Summarize digests the result.
@@ -256,7 +307,9 @@ func (r *Result) Summarize() Summary {
 		BudgetCents: int64(r.Plan.Budget)}
 	feasibleLegs := map[string]int{}
 	for _, l := range r.Legs {
-		s.TotalCents += l.Cost.TotalCents()
+		s.ModelCents += l.Cost.TotalCents()
+		s.CableM += l.Cable.LengthM * float64(l.Cable.Cables)
+		s.MidSpanSplices += l.Cable.Joins * l.Cable.Cables
 		if !l.Feasible {
 			s.Infeasible++
 			continue
@@ -271,7 +324,37 @@ func (r *Result) Summarize() Summary {
 			s.WorstMarginDB = &m
 		}
 	}
-	s.TotalCents += r.ExtraCents
+	s.ModelCents += r.ExtraCents
+	s.TotalCents = s.ModelCents
+	s.WarningCounts = map[string]int{"network": len(r.Site.Net.Warnings)}
+	if e := r.Estimate; e != nil && e.BOM != nil {
+		b := e.BOM
+		s.TotalCents, s.SubtotalCents = b.TotalCents, b.SubtotalCents
+		s.ContingencyCents, s.OverheadCents, s.TaxCents = b.ContingencyCents, b.OverheadCents, b.TaxCents
+		s.CostByCategory = map[string]int64{}
+		for _, c := range b.Subtotal {
+			s.CostByCategory[c.Category] = c.Cents
+		}
+		for _, l := range b.Largest(5) {
+			d := CostDriver{Category: l.Category, Item: l.Item, Cents: l.ExtendedCents}
+			if b.SubtotalCents > 0 {
+				d.Pct = round1(100 * float64(l.ExtendedCents) / float64(b.SubtotalCents))
+			}
+			s.CostDrivers = append(s.CostDrivers, d)
+		}
+		s.PullSections, s.AddedPullPoints = len(e.Pulls), e.AddedPullPoints
+		for _, p := range e.Pulls {
+			if !p.WithinRating {
+				s.PullsOverRating++
+			}
+		}
+		s.WarningCounts["install"] = len(e.Warnings)
+		s.WarningCounts["budget"] = 0
+		if e.BudgetWarning != "" {
+			s.WarningCounts["budget"] = 1
+		}
+	}
+	s.CableM = round1(s.CableM)
 	for _, l := range r.Links {
 		if l.Diverse {
 			if feasibleLegs[l.ID] == 2 {
@@ -298,14 +381,17 @@ func (r *Result) summaryJSON() ([]byte, error) {
 	return append(b, '\n'), nil
 }
 
-// PrintSummary writes a short human summary of the result.
+// PrintSummary writes a short human summary of the result: links and legs, media, cable
+// bought by construction, new construction, pulling, and the total against the budget,
+// lengths and forces in the units of opt.
 func (r *Result) PrintSummary(w io.Writer, opt WriteOptions) error {
 	s := r.Summarize()
-	unit, scale := "m", 1.0
+	unit, force := "m", "N"
+	length := func(m float64) string { return ftOrM(opt, m, 1) + " " + unit }
 	if opt.imperial() {
-		unit, scale = "ft", FtPerM
+		unit, force = "ft", "lbf"
 	}
-	fmt.Fprintf(w, "plan %q: hub %s, %d links, %d legs, %.1f %s of route\n", s.Scenario, s.Hub, s.Links, s.Legs, s.TotalRouteM*scale, unit)
+	fmt.Fprintf(w, "plan %q: hub %s, %d links, %d legs, %s of route\n", s.Scenario, s.Hub, s.Links, s.Legs, length(s.TotalRouteM))
 	if s.Infeasible > 0 {
 		fmt.Fprintf(w, "%d legs infeasible:\n", s.Infeasible)
 		for _, l := range r.Legs {
@@ -313,6 +399,68 @@ func (r *Result) PrintSummary(w io.Writer, opt WriteOptions) error {
 				fmt.Fprintf(w, "  %s %s: %s\n", l.Link.ID, l.Name, l.Reason)
 			}
 		}
+	}
+	if len(s.MediaMix) > 0 {
+		var mix []string
+		for _, m := range sortedKeys(s.MediaMix) {
+			mix = append(mix, fmt.Sprintf("%s %d", m, s.MediaMix[m]))
+		}
+		fmt.Fprintf(w, "legs by medium: %s\n", strings.Join(mix, ", "))
+	}
+	byCons := map[string]float64{}
+	for _, l := range r.Legs {
+		if l.Feasible {
+			byCons[l.Medium+" "+l.Construction] += l.Cable.LengthM * float64(l.Cable.Cables)
+		}
+	}
+	if len(byCons) > 0 {
+		var parts []string
+		for _, k := range sortedKeys(byCons) {
+			parts = append(parts, k+" "+length(byCons[k]))
+		}
+		fmt.Fprintf(w, "cable bought: %s (%s in all, %d mid-span splices)\n", strings.Join(parts, ", "), length(s.CableM), s.MidSpanSplices)
+	}
+	e := r.Estimate
+	if e == nil || e.BOM == nil {
+		if s.WarningCount > 0 {
+			fmt.Fprintf(w, "%d warnings (see summary.json)\n", s.WarningCount)
+		}
+		return nil
+	}
+	c := e.Construction
+	trench := 0.0
+	for _, m := range c.TrenchM {
+		trench += m
+	}
+	fmt.Fprintf(w, "construction: new trench %s, added duct %s, %d handholes where new pathway joins, %d for added pull points\n",
+		length(trench), length(c.AddedDuctM), len(c.NewJunctions), e.AddedPullPoints)
+	if len(e.Pulls) > 0 {
+		hi := e.Pulls[0]
+		for _, p := range e.Pulls {
+			if p.TensionN/p.RatedN > hi.TensionN/hi.RatedN {
+				hi = p
+			}
+		}
+		t, rated := hi.TensionN, hi.RatedN
+		if opt.imperial() {
+			t, rated = install.NToLbf(t), install.NToLbf(rated)
+		}
+		fmt.Fprintf(w, "pulling: %d pull sections, %d over rating; highest %.1f %s of %.1f %s rated (%s %s, from %s to %s)\n",
+			s.PullSections, s.PullsOverRating, t, force, rated, force, r.Legs[hi.Leg].Link.ID, r.Legs[hi.Leg].Name, hi.From, hi.To)
+	}
+	b := e.BOM
+	var cats []string
+	for _, x := range b.Subtotal {
+		cats = append(cats, x.Category+" "+media.FormatCents(x.Cents))
+	}
+	fmt.Fprintf(w, "total %s %s: %s, markups %s (%s)\n", media.FormatCents(b.TotalCents), b.Currency, strings.Join(cats, ", "),
+		media.FormatCents(b.TotalCents-b.SubtotalCents), b.Label)
+	if s.BudgetCents > 0 {
+		word, over := "under", -s.OverBudgetCents
+		if s.OverBudgetCents > 0 {
+			word, over = "over", s.OverBudgetCents
+		}
+		fmt.Fprintf(w, "budget %s %s: %s by %s (%.1f %%)\n", media.FormatCents(s.BudgetCents), b.Currency, word, media.FormatCents(over), math.Abs(s.OverBudgetPct))
 	}
 	if s.WarningCount > 0 {
 		fmt.Fprintf(w, "%d warnings (see summary.json)\n", s.WarningCount)

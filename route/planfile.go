@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"errors"
 	"fmt"
+	"math"
 	"os"
 	"path/filepath"
 	"sort"
@@ -74,6 +75,15 @@ type Design struct {
 	PairLossDB         float64 `yaml:"pair_loss_db"`   // design loss per mated connector pair; 0 = catalog (TIA-568.3-D 0.75 dB)
 	SpliceLossDB       float64 `yaml:"splice_loss_db"` // design loss per splice; 0 = catalog (TIA-568.3-D 0.3 dB)
 	Objective          string  `yaml:"objective"`
+
+	// Installation: what the cable takeoff and the pulling plan assume.
+	WastePct            float64 `yaml:"waste_pct"`              // cable bought beyond the measured length, in percent
+	SlackLoopEntranceM  float64 `yaml:"slack_loop_entrance_m"`  // slack loop at each building entrance, in metres
+	SlackLoopStructureM float64 `yaml:"slack_loop_structure_m"` // slack loop at each maintenance hole or handhole passed, in metres
+	ReelM               float64 `yaml:"reel_m"`                 // longest cable on one reel, in metres; longer runs get mid-span splices
+	PullMu              float64 `yaml:"pull_mu"`                // coefficient of friction between cable and duct
+	PullBendDeg         float64 `yaml:"pull_bend_deg"`          // most bend degrees between pull points
+	PullMaxM            float64 `yaml:"pull_max_m"`             // most metres between pull points; 0 for no limit
 }
 
 // Money is an amount in integer cents, read from a YAML number such as 1250000 or 1250000.50.
@@ -122,6 +132,18 @@ var PlanDefaults = Plan{
 		SnapM:          0.5,
 		SlackM:         5,
 		Objective:      ObjectiveCost,
+		// Common practice, no published source: 5 % waste, 3 m loops at entrances and at
+		// maintenance holes and handholes, 4 km reels of outside-plant fibre.
+		WastePct:            5,
+		SlackLoopEntranceM:  3,
+		SlackLoopStructureM: 3,
+		ReelM:               4000,
+		// μ 0.5 is the usual default when the duct and lubricant are unknown (cable pulling
+		// statics, see REFERENCES); TIA-569 allows at most 180° of bends between pull points.
+		// TIA-569's 30 m between pull points applies to conduit in buildings, so campus duct
+		// gets no length limit unless the plan sets one.
+		PullMu:      0.5,
+		PullBendDeg: 180,
 	},
 }
 
@@ -331,6 +353,27 @@ func (p *Plan) validate() []error {
 	}
 	if g.SpliceLossDB < 0 {
 		bad(0, "design.splice_loss_db", "want dB >= 0, got %g", g.SpliceLossDB)
+	}
+	if !(g.WastePct >= 0 && g.WastePct <= 100) {
+		bad(0, "design.waste_pct", "want a percentage from 0 to 100, got %g", g.WastePct)
+	}
+	if !(g.SlackLoopEntranceM >= 0) || math.IsInf(g.SlackLoopEntranceM, 0) {
+		bad(0, "design.slack_loop_entrance_m", "want metres >= 0, got %g", g.SlackLoopEntranceM)
+	}
+	if !(g.SlackLoopStructureM >= 0) || math.IsInf(g.SlackLoopStructureM, 0) {
+		bad(0, "design.slack_loop_structure_m", "want metres >= 0, got %g", g.SlackLoopStructureM)
+	}
+	if !(g.ReelM >= MaxCopperChannelM) || math.IsInf(g.ReelM, 0) {
+		bad(0, "design.reel_m", "want metres >= %g (a copper channel, which cannot be spliced), got %g", MaxCopperChannelM, g.ReelM)
+	}
+	if !(g.PullMu >= 0 && g.PullMu <= 2) {
+		bad(0, "design.pull_mu", "want a coefficient of friction from 0 to 2, got %g", g.PullMu)
+	}
+	if !(g.PullBendDeg > 0 && g.PullBendDeg <= 360) {
+		bad(0, "design.pull_bend_deg", "want degrees above 0 and at most 360 (NFPA 70 per raceway), got %g", g.PullBendDeg)
+	}
+	if !(g.PullMaxM >= 0) || math.IsInf(g.PullMaxM, 0) {
+		bad(0, "design.pull_max_m", "want metres >= 0 (0: no limit), got %g", g.PullMaxM)
 	}
 	if g.Objective != ObjectiveCost && g.Objective != ObjectiveLength {
 		bad(0, "design.objective", "want %q or %q, got %q", ObjectiveCost, ObjectiveLength, g.Objective)

@@ -41,6 +41,10 @@ type Leg struct {
 	Choice        string       // the rule engine's reason for the medium
 	Rejected      []media.Rejection
 
+	// Cable is the leg's cable takeoff: slack loops, length bought, reels and the mid-span
+	// splices between them, which the loss budget counts (see CableTakeoff).
+	Cable CableTakeoff
+
 	Cost LegCost
 }
 
@@ -75,6 +79,9 @@ type Result struct {
 	Engine *media.Engine // the engine that chose the media
 	Opened []string      // proposed spans the plan builds, by span ID
 	Fill   []SegmentFill // duct fill of every span that carries cable, by span ID
+
+	// Estimate is the installation takeoff and priced bill of materials (see Estimate).
+	Estimate *Estimate
 }
 
 // ErrInfeasible is returned, wrapped in an *InfeasibleError, when a plan finished but some
@@ -222,6 +229,9 @@ func SolveWith(ctx context.Context, s *Site, p *Plan, eng *media.Engine) (*Resul
 	for i := range links {
 		r.Legs = append(r.Legs, s.legsOf(cm, prob, &sol.Routes[i], &r.Links[i], infos[i], infeasible[i])...)
 	}
+	if err := r.estimate(); err != nil {
+		return nil, err
+	}
 	return r, nil
 }
 
@@ -298,6 +308,9 @@ func (s *Site) fillLeg(cm *costModel, prob *optimize.Problem, leg *Leg, ol optim
 		facts.PathwayTypes = append(facts.PathwayTypes, t)
 	}
 	sort.Strings(facts.PathwayTypes)
+	// The installation's slack loops and reel joins go into the loss budget.
+	leg.Cable = s.takeoff(cm.design, leg)
+	facts.SlackM, facts.Splices = leg.Cable.SlackM(), facts.Splices+leg.Cable.Joins
 	ch := cm.eng.Choose(facts)
 	leg.Rejected = ch.Rejected
 	leg.Choice = ch.Reason
@@ -306,6 +319,7 @@ func (s *Site) fillLeg(cm *costModel, prob *optimize.Problem, leg *Leg, ol optim
 		return
 	}
 	leg.Feasible = true
+	leg.Cable.fit(cm.eng.Catalog(), ch)
 	leg.Medium, leg.Application, leg.Construction = ch.Medium, ch.Application, ch.Construction
 	leg.Losses = ch.Losses
 	leg.WorstMarginDB = worstMargin(ch.Losses)

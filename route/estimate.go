@@ -1,0 +1,661 @@
+package route
+
+import (
+	"fmt"
+	"math"
+	"sort"
+	"strconv"
+
+	"spanwright/geo"
+	"spanwright/media"
+	"spanwright/media/install"
+)
+
+// MaxCopperChannelM is the longest copper channel, in metres: a 90 m permanent link plus
+// 10 m of cords (ANSI/TIA-568.2, seen). Copper is never spliced, so a reel must hold it.
+const MaxCopperChannelM = 100.0
+
+// StandardGravity turns a cable's mass per metre into its weight per metre, in m/s²
+// (9.80665 exactly, CGPM 1901).
+const StandardGravity = 9.80665
+
+// Conduit bend radius, as a multiple of the duct's internal diameter (TIA-569): 10 × ID for
+// optical fibre (from memory); for copper 6 × ID up to 2 in (50.8 mm) and 10 × ID above
+// (seen). The pulling plan puts every bend of a duct at this radius.
+const (
+	BendRadiusFibreID       = 10.0
+	BendRadiusCopperSmallID = 6.0
+	BendRadiusCopperLargeID = 10.0
+	SmallConduitIDMM        = 50.8 // 2 in, in mm
+)
+
+// CableTakeoff is what one leg needs of its cable. Lengths are metres of one cable; a leg
+// with more strands than the largest size has Cables of them side by side.
+type CableTakeoff struct {
+	EndSlackM      float64 // service coils at both ends: 2 × design.slack_m
+	EntranceLoopM  float64 // slack loops at both building entrances
+	Structures     int     // maintenance holes and handholes the route passes
+	StructureLoopM float64 // slack loops at those structures
+	// ChannelM is route (laterals included) + risers + every slack loop: the length the loss
+	// budget counts.
+	ChannelM float64
+	WasteM   float64 // design.waste_pct of ChannelM
+	LengthM  float64 // the length bought: ChannelM + WasteM rounded up to a whole metre
+	Reels    int     // reels of at most design.reel_m that LengthM takes
+	Joins    int     // mid-span splices between reels; each strand's path crosses every one
+
+	// Filled once the medium is chosen.
+	Size       media.Size // the cable size of the chosen construction
+	Cables     int        // cables of Size
+	Terminated int        // strands (4-pair cables for copper) terminated at each end
+}
+
+// SlackM is every slack loop of the leg, in metres.
+func (t CableTakeoff) SlackM() float64 { return t.EndSlackM + t.EntranceLoopM + t.StructureLoopM }
+
+// takeoff measures a routed leg's cable before its medium is known: slack loops, channel,
+// waste and reels. The rule engine then decides on the channel and the reel joins (fed back
+// as splices in the loss budget); fit completes it with the chosen construction.
+func (s *Site) takeoff(d Design, leg *Leg) CableTakeoff {
+	t := CableTakeoff{EndSlackM: 2 * d.SlackM, EntranceLoopM: 2 * d.SlackLoopEntranceM}
+	t.Structures = s.structuresPassed(leg.Steps)
+	t.StructureLoopM = float64(t.Structures) * d.SlackLoopStructureM
+	t.ChannelM = leg.RouteM + leg.RiserM + t.SlackM()
+	t.WasteM = t.ChannelM * d.WastePct / 100
+	t.LengthM = math.Ceil(t.ChannelM + t.WasteM - 1e-9)
+	t.Reels = max(1, int(math.Ceil(t.LengthM/d.ReelM-1e-9)))
+	t.Joins = t.Reels - 1
+	return t
+}
+
+// fit fills the takeoff's cable size from the rule engine's choice.
+func (t *CableTakeoff) fit(cat *media.Catalog, ch media.Choice) {
+	k := cat.Medium(ch.Medium).Construction(ch.Construction)
+	t.Size, t.Cables = k.Fit(ch.Strands)
+	t.Terminated = ch.Strands
+}
+
+// junctionsOf lists the junction IDs along steps: the start, then the end of every step.
+func (s *Site) junctionsOf(steps []geo.Step) []string {
+	if len(steps) == 0 {
+		return nil
+	}
+	out := make([]string, 0, len(steps)+1)
+	for i, st := range steps {
+		sp, _ := s.Net.Span(st.SpanID)
+		from, to := sp.From, sp.To
+		if st.Reverse {
+			from, to = to, from
+		}
+		if i == 0 {
+			out = append(out, from)
+		}
+		out = append(out, to)
+	}
+	return out
+}
+
+// loopStructure reports whether a junction gets a slack loop: a maintenance hole or handhole.
+func (s *Site) loopStructure(id string) bool {
+	j, ok := s.Net.Junction(id)
+	return ok && j.Kind == geo.JunctionStructure &&
+		(j.StructureType == geo.StructureMaintenanceHole || j.StructureType == geo.StructureHandhole)
+}
+
+func (s *Site) structuresPassed(steps []geo.Step) int {
+	n := 0
+	for _, id := range s.junctionsOf(steps) {
+		if s.loopStructure(id) {
+			n++
+		}
+	}
+	return n
+}
+
+// Estimate is the installation takeoff and priced bill of materials of a planned scenario.
+type Estimate struct {
+	Pulls []PullSection // every pull of every feasible leg, in leg order
+	// AddedPullPoints is the number of distinct intermediate pull points the pulls need, each
+	// billed as a handhole; legs that need one at the same place share it.
+	AddedPullPoints int
+	Fill            []DuctFill // each duct holding cable on a span of limited capacity, by span and duct
+	Buildings       []Connectivity
+	Construction    Construction
+	Quantities      []media.Quantity // what the BOM prices, before merging
+	BOM             *media.BOM
+	Warnings        []string // pulls over rating, cables that fit no duct, conduit bends too tight
+	BudgetWarning   string   // the total is over the plan's budget; "" when not
+}
+
+// PullSection is one pull of one cable between two pull points, in the leg's travel order
+// (from the served building towards the cross-connect). Tension is computed for conduit
+// (pathway type duct) only: cable laid in tunnels, trays, on poles or in a trench is not
+// pulled through a duct, and every change to or from duct is a pull point.
+type PullSection struct {
+	Leg      int      // index in Result.Legs
+	Seq      int      // 1-based within the leg
+	From, To string   // pull points: a structure or junction ID, a building ID, or a new handhole on a span
+	Spans    []string // span IDs in the section, in travel order
+	StartM   float64  // where the section starts along the leg's spans, from its served end, in metres
+	LengthM  float64
+	BendDeg  float64 // sum of the section's bends, in degrees
+	// BendRadiusM is the conduit bend radius the capstan's sidewall pressure uses (TIA-569
+	// multiples of the duct ID), the smallest in the section; 0 without bends.
+	BendRadiusM  float64
+	FeedAt       string  // the pull point where the cable is fed: From or To
+	TensionN     float64 // highest tension of the pull from FeedAt, in newtons
+	OtherN       float64 // highest tension when fed from the other end, in newtons
+	RatedN       float64 // the construction's maximum pulling tension, in newtons
+	SWBPNPerM    float64 // highest sidewall bearing pressure at a bend, T/R, in N/m
+	AddedFrom    bool    // From is a pull point the plan adds
+	AddedTo      bool    // To is a pull point the plan adds
+	WithinRating bool
+	Reason       string // why not within rating
+}
+
+// DuctFill is the fill of one duct of a span (NFPA 70 Chapter 9 Table 1) and, for three
+// cables of equal diameter, its jam ratio 1.05·D/d, jam-prone from 2.8 to 3.2 (NFPA 70
+// Chapter 9 informative note, seen).
+type DuctFill struct {
+	Span, PathwayID string
+	Duct            int  // 1-based
+	Added           bool // a duct the plan adds
+	DuctIDMM        float64
+	CablesODMM      []float64
+	FillPct         float64 // cable area as a percentage of the duct's area
+	AllowedPct      float64 // 53, 31 or 40 % for 1, 2 or more cables
+	OK              bool
+	JamRatio        float64 // 0 when the jam check does not apply
+	JamRisk         bool
+}
+
+// Connectivity is what one building terminates: fibre strands on adapter panels in
+// enclosures, pigtail splices in trays, copper cables on patch panels.
+type Connectivity struct {
+	Building      string
+	FibreStrands  int
+	CopperCables  int
+	AdapterPanels map[int]int // panels by port count
+	Enclosures    map[int]int // enclosures by port count
+	CopperPanels  map[int]int // copper patch panels by port count
+	SpliceTrays   int
+}
+
+// Construction is the new civil work of a plan, in metres and counts.
+type Construction struct {
+	TrenchM    map[string]float64 // new trench by surface: opened spans and trenches for added ducts
+	AddedDuctM float64            // duct metres added: new duct in opened duct spans plus added ducts
+	// NewJunctions are the handholes where opened pathways join the network at a junction
+	// with no structure (common practice, no published source), by junction ID.
+	NewJunctions []string
+}
+
+// fibre tells whether the leg's medium is optical fibre.
+func (r *Result) fibre(l *Leg) bool {
+	m := r.Engine.Catalog().Medium(l.Medium)
+	return m != nil && m.Fibre()
+}
+
+// estimate builds the installation takeoff and prices it: pulling plans, duct fill,
+// connectivity, construction and the bill of materials. A price the plan needs and the
+// book lacks is an error naming its key.
+func (r *Result) estimate() error {
+	e := &Estimate{}
+	r.Estimate = e
+	added := map[string]bool{}
+	for i := range r.Legs {
+		if r.Legs[i].Feasible {
+			r.pullPlan(i, added)
+		}
+	}
+	e.AddedPullPoints = len(added)
+	r.ductFill()
+	r.connectivity()
+	r.construction()
+	r.quantities()
+	bom, err := r.Engine.PriceBook().Bill(e.Quantities)
+	if err != nil {
+		return fmt.Errorf("bill of materials: %w", err)
+	}
+	e.BOM = bom
+	if budget := int64(r.Plan.Budget); budget > 0 && bom.TotalCents > budget {
+		e.BudgetWarning = fmt.Sprintf("the total %s %s is over the budget %s by %s (%.1f %%)", media.FormatCents(bom.TotalCents), bom.Currency,
+			media.FormatCents(budget), media.FormatCents(bom.TotalCents-budget), 100*float64(bom.TotalCents-budget)/float64(budget))
+	}
+	r.Warnings = append(r.Warnings, e.Warnings...)
+	if e.BudgetWarning != "" {
+		r.Warnings = append(r.Warnings, e.BudgetWarning)
+	}
+	return nil
+}
+
+// pullPlan plans the pulls of leg i, appending its sections and warnings to the estimate
+// and its intermediate pull points to added, keyed by place.
+func (r *Result) pullPlan(i int, added map[string]bool) {
+	s, d, e := r.Site, r.Plan.Design, r.Estimate
+	leg := &r.Legs[i]
+	med := r.Engine.Catalog().Medium(leg.Medium)
+	k := med.Construction(leg.Construction)
+	spec := install.PullSpec{WNPerM: leg.Cable.Size.WeightKgPerM * StandardGravity, Mu: d.PullMu,
+		MaxTensionN: k.MaxPullN, MaxBendDeg: d.PullBendDeg, MaxLengthM: d.PullMaxM}
+	juncs := s.junctionsOf(leg.Steps)
+	cum := make([]float64, len(leg.Steps)+1)
+	spans := make([]geo.Span, len(leg.Steps))
+	for j, st := range leg.Steps {
+		spans[j], _ = s.Net.Span(st.SpanID)
+		cum[j+1] = cum[j] + spans[j].LengthM
+	}
+	cableBendM := k.BendRadiusMM(leg.Cable.Size, true) / 1000
+	tight := ""
+	radius := func(sp *geo.Span) float64 {
+		f := BendRadiusFibreID
+		if !med.Fibre() {
+			f = BendRadiusCopperLargeID
+			if sp.DuctMM <= SmallConduitIDMM {
+				f = BendRadiusCopperSmallID
+			}
+		}
+		rm := f * sp.DuctMM / 1000
+		if rm < cableBendM && tight == "" {
+			tight = fmt.Sprintf("%s %s: conduit bend radius %.2f m on span %s is below the cable's %.2f m at rated tension",
+				leg.Link.ID, leg.Name, rm, sp.ID, cableBendM)
+		}
+		return rm
+	}
+	name := func(x float64) (label, key string) {
+		for j, c := range cum {
+			if math.Abs(x-c) < 0.01 {
+				switch j {
+				case 0:
+					return leg.Link.To, "B:" + leg.Link.To
+				case len(cum) - 1:
+					return leg.Link.From, "B:" + leg.Link.From
+				}
+				return juncs[j], "J:" + juncs[j]
+			}
+		}
+		j := sort.SearchFloat64s(cum, x) - 1
+		j = min(max(j, 0), len(spans)-1)
+		off := x - cum[j]
+		if leg.Steps[j].Reverse {
+			off = spans[j].LengthM - off
+		}
+		return fmt.Sprintf("new handhole on %s at %.1f m", spans[j].ID, off), fmt.Sprintf("S:%s@%.0f", spans[j].ID, off)
+	}
+	seq := 0
+	for j := 0; j < len(spans); {
+		if spans[j].Type != geo.TypeDuct {
+			j++
+			continue
+		}
+		first := j
+		var steps []install.Step
+		var points []int
+		for ; j < len(spans) && spans[j].Type == geo.TypeDuct; j++ {
+			sp := &spans[j]
+			rm := radius(sp)
+			if j > first {
+				if s.isStructure(juncs[j]) {
+					points = append(points, len(steps))
+				} else if turn := s.Net.TurnDeg(leg.Steps[j-1], leg.Steps[j]); turn > 0 {
+					rb := math.Min(rm, radius(&spans[j-1]))
+					steps = append(steps, install.Step{Kind: install.KindBend, AngleDeg: turn, RadiusM: rb})
+				}
+			}
+			segs := sp.SegmentsM()
+			for q := range segs {
+				qq, bq := q, q-1
+				if leg.Steps[j].Reverse {
+					qq, bq = len(segs)-1-q, len(segs)-1-q
+				}
+				if q > 0 && bq < len(sp.BendsDeg) && sp.BendsDeg[bq] > 0 {
+					steps = append(steps, install.Step{Kind: install.KindBend, AngleDeg: sp.BendsDeg[bq], RadiusM: rm})
+				}
+				steps = append(steps, install.Step{Kind: install.KindStraight, LengthM: segs[qq]})
+			}
+		}
+		plan, err := install.Sections(steps, points, spec)
+		if err != nil {
+			e.Warnings = append(e.Warnings, fmt.Sprintf("%s %s: no pulling plan: %v", leg.Link.ID, leg.Name, err))
+			continue
+		}
+		for _, sec := range plan.Sections {
+			seq++
+			start := cum[first] + sec.StartM
+			end := start + sec.LengthM
+			ps := PullSection{Leg: i, Seq: seq, StartM: start, LengthM: sec.LengthM, BendDeg: sec.BendDeg,
+				TensionN: sec.MaxTensionN, RatedN: spec.MaxTensionN, SWBPNPerM: sec.MaxSWBPNPerM,
+				AddedFrom: sec.StartAdded, AddedTo: sec.EndAdded, WithinRating: sec.WithinRating, Reason: sec.Reason}
+			var fromKey, toKey string
+			ps.From, fromKey = name(start)
+			ps.To, toKey = name(end)
+			if sec.StartAdded {
+				added[fromKey] = true
+			}
+			if sec.EndAdded {
+				added[toKey] = true
+			}
+			ps.FeedAt, ps.OtherN = ps.From, sec.Reverse.MaxTensionN
+			if sec.Best == install.Reverse {
+				ps.FeedAt, ps.OtherN = ps.To, sec.Forward.MaxTensionN
+			}
+			for _, st := range sec.Steps {
+				if st.Kind == install.KindBend && (ps.BendRadiusM == 0 || st.RadiusM < ps.BendRadiusM) {
+					ps.BendRadiusM = st.RadiusM
+				}
+			}
+			for q := first; q < j; q++ {
+				if cum[q] < end-0.01 && cum[q+1] > start+0.01 {
+					ps.Spans = append(ps.Spans, spans[q].ID)
+				}
+			}
+			if !sec.WithinRating {
+				e.Warnings = append(e.Warnings, fmt.Sprintf("%s %s: pull %d from %s to %s: %s; reroute or add a structure",
+					leg.Link.ID, leg.Name, seq, ps.From, ps.To, sec.Reason))
+			}
+			e.Pulls = append(e.Pulls, ps)
+		}
+	}
+	if tight != "" {
+		e.Warnings = append(e.Warnings, tight)
+	}
+}
+
+func (s *Site) isStructure(id string) bool {
+	j, ok := s.Net.Junction(id)
+	return ok && j.Kind == geo.JunctionStructure
+}
+
+// ductFill checks every duct of every span of limited capacity that carries cable, with
+// the chosen cables' outside diameters, packed as the optimizer does (first fit decreasing).
+func (r *Result) ductFill() {
+	e := r.Estimate
+	ods := map[string][]float64{}
+	for i := range r.Legs {
+		l := &r.Legs[i]
+		if !l.Feasible {
+			continue
+		}
+		for _, st := range l.Steps {
+			for c := 0; c < l.Cable.Cables; c++ {
+				ods[st.SpanID] = append(ods[st.SpanID], l.Cable.Size.ODMM)
+			}
+		}
+	}
+	for _, f := range r.Fill {
+		if !f.Limited {
+			continue
+		}
+		sp, _ := r.Site.Net.Span(f.Span)
+		bank := install.DuctBank{Ducts: f.Ducts + f.AddedDucts, IDMM: sp.DuctMM}
+		a := bank.Assign(ods[f.Span])
+		if a.Err != nil {
+			e.Warnings = append(e.Warnings, fmt.Sprintf("span %s: duct fill: %v", f.Span, a.Err))
+			continue
+		}
+		if a.Unplaced > 0 {
+			e.Warnings = append(e.Warnings, fmt.Sprintf("span %s: %d of %d cables fit no duct within NFPA 70 Chapter 9 fill and jam limits",
+				f.Span, a.Unplaced, len(ods[f.Span])))
+		}
+		for d, df := range a.Ducts {
+			if len(df.CablesODMM) == 0 {
+				continue
+			}
+			e.Fill = append(e.Fill, DuctFill{Span: f.Span, PathwayID: f.PathwayID, Duct: d + 1, Added: d >= f.Ducts,
+				DuctIDMM: sp.DuctMM, CablesODMM: df.CablesODMM, FillPct: df.Pct, AllowedPct: df.AllowedPct,
+				OK: df.OK && !df.JamRisk, JamRatio: df.JamRatio, JamRisk: df.JamRisk})
+		}
+	}
+}
+
+// cover is the fewest items of the given sizes (ascending) holding n: as many of the
+// largest as fit whole, then the smallest that holds the rest. It is empty for n <= 0 or
+// no sizes.
+func cover(sizes []int, n int) map[int]int {
+	out := map[int]int{}
+	if n <= 0 || len(sizes) == 0 {
+		return out
+	}
+	big := sizes[len(sizes)-1]
+	if k := n / big; k > 0 {
+		out[big] = k
+		n -= k * big
+	}
+	if n > 0 {
+		for _, s := range sizes {
+			if s >= n {
+				out[s]++
+				break
+			}
+		}
+	}
+	return out
+}
+
+// counts are the sizes the book prices for item, ascending.
+func counts(p *media.PriceBook, item string) []int {
+	var out []int
+	for _, k := range p.Keys() {
+		if k.Item == item {
+			out = append(out, k.Count)
+		}
+	}
+	return out
+}
+
+// trayStrands is how many splices a tray holds; 12 when the book does not say, since a book
+// without trays fails on their price anyway.
+func trayStrands(p *media.PriceBook) int {
+	if p.SpliceTrayStrands > 0 {
+		return p.SpliceTrayStrands
+	}
+	return 12
+}
+
+// connectivity sizes what each building terminates. Each fibre cable end gets its own
+// adapter panels (the fewest covering its strands) and its pigtail splices their own
+// trays; a building's enclosures hold all its panel ports; copper cables share the
+// building's patch panels (common practice, no published source).
+func (r *Result) connectivity() {
+	p := r.Engine.PriceBook()
+	panels, encl, copper := counts(p, media.PriceAdapterPanel), counts(p, media.PriceEnclosure), counts(p, media.PriceCopperPanel)
+	byB := map[string]*Connectivity{}
+	get := func(b string) *Connectivity {
+		c, ok := byB[b]
+		if !ok {
+			c = &Connectivity{Building: b, AdapterPanels: map[int]int{}, Enclosures: map[int]int{}, CopperPanels: map[int]int{}}
+			byB[b] = c
+		}
+		return c
+	}
+	for i := range r.Legs {
+		l := &r.Legs[i]
+		if !l.Feasible {
+			continue
+		}
+		for _, b := range []string{l.Link.From, l.Link.To} {
+			c := get(b)
+			if !r.fibre(l) {
+				c.CopperCables += l.Cable.Terminated
+				continue
+			}
+			c.FibreStrands += l.Cable.Terminated
+			for size, n := range cover(panels, l.Cable.Terminated) {
+				c.AdapterPanels[size] += n
+			}
+			c.SpliceTrays += (l.Cable.Terminated + trayStrands(p) - 1) / trayStrands(p)
+		}
+	}
+	names := make([]string, 0, len(byB))
+	for b := range byB {
+		names = append(names, b)
+	}
+	sort.Strings(names)
+	for _, b := range names {
+		c := byB[b]
+		ports := 0
+		for size, n := range c.AdapterPanels {
+			ports += size * n
+		}
+		if c.FibreStrands > 0 && len(panels) == 0 {
+			ports = c.FibreStrands
+		}
+		c.Enclosures = cover(encl, ports)
+		c.CopperPanels = cover(copper, c.CopperCables)
+		r.Estimate.Buildings = append(r.Estimate.Buildings, *c)
+	}
+}
+
+// construction totals the new civil work: opened spans (trench and restoration on their
+// surface, and a duct when the span is a duct), added ducts on existing spans (one trench
+// beside the span however many ducts it gets) and a handhole where an opened span meets the
+// network at a junction without a structure.
+func (r *Result) construction() {
+	s := r.Site
+	c := Construction{TrenchM: map[string]float64{}}
+	access := map[string]bool{}
+	for _, a := range s.Net.Access {
+		access[a.Junction] = true
+	}
+	newJ := map[string]bool{}
+	for _, id := range r.Opened {
+		sp, _ := s.Net.Span(id)
+		c.TrenchM[surfaceOf(&sp)] += sp.LengthM
+		if sp.Type == geo.TypeDuct {
+			c.AddedDuctM += sp.LengthM
+		}
+		for _, j := range []string{sp.From, sp.To} {
+			if jn, ok := s.Net.Junction(j); ok && jn.Kind == geo.JunctionNode && !access[j] {
+				newJ[j] = true
+			}
+		}
+	}
+	for _, f := range r.Fill {
+		if f.AddedDucts > 0 {
+			sp, _ := s.Net.Span(f.Span)
+			c.TrenchM[surfaceOf(&sp)] += sp.LengthM
+			c.AddedDuctM += float64(f.AddedDucts) * sp.LengthM
+		}
+	}
+	for j := range newJ {
+		c.NewJunctions = append(c.NewJunctions, j)
+	}
+	sort.Strings(c.NewJunctions)
+	r.Estimate.Construction = c
+}
+
+// quantities lists everything the bill of materials prices.
+func (r *Result) quantities() {
+	e := r.Estimate
+	p := r.Engine.PriceBook()
+	cat := r.Engine.Catalog()
+	add := func(category, item, unit string, amount float64, price media.PriceKey) {
+		e.Quantities = append(e.Quantities, media.Quantity{Category: category, Item: item, Unit: unit, Amount: amount, Price: price})
+	}
+	hour := media.PriceKey{Item: media.PriceLabourHour}
+	work := func(item, unit string, amount float64, rate media.PriceKey) {
+		e.Quantities = append(e.Quantities, media.Quantity{Category: media.CategoryLabour, Item: item, Unit: unit,
+			Amount: amount, Price: hour, Rate: rate})
+	}
+	cords := p.Has(media.PricePatchCord)
+	pull := func(t string, m float64) {
+		work("pull cable in "+t, media.UnitM, m, media.PriceKey{Item: media.RatePull, Name: t})
+	}
+	for i := range r.Legs {
+		l := &r.Legs[i]
+		if !l.Feasible {
+			continue
+		}
+		t := l.Cable
+		n := float64(t.Cables)
+		fibre := r.fibre(l)
+		item := fmt.Sprintf("cable %s %s, %d strands", l.Medium, l.Construction, t.Size.Count)
+		if !fibre {
+			item = fmt.Sprintf("cable %s %s, 4-pair", l.Medium, l.Construction)
+		}
+		add(media.CategoryMaterial, item, media.UnitM, t.LengthM*n,
+			media.PriceKey{Item: media.PriceCable, Medium: l.Medium, Construction: l.Construction, Count: t.Size.Count})
+		ends := float64(2 * t.Terminated)
+		if fibre {
+			add(media.CategoryMaterial, "termination "+l.Medium+", per strand end", media.UnitEach, ends, media.PriceKey{Item: media.PriceTermination, Medium: l.Medium})
+			work("terminate fibre strands", media.UnitEach, ends, media.PriceKey{Item: media.RateTermination})
+			work("loss test fibre strands", media.UnitEach, float64(t.Terminated), media.PriceKey{Item: media.RateLossTest})
+			work("OTDR test fibre strands", media.UnitEach, float64(t.Terminated), media.PriceKey{Item: media.RateOTDRTest})
+		} else {
+			add(media.CategoryMaterial, "termination "+l.Medium+", per 4-pair cable end", media.UnitEach, ends, media.PriceKey{Item: media.PriceTermination, Medium: l.Medium})
+			work("terminate copper cables", media.UnitEach, ends, media.PriceKey{Item: media.RateTermination})
+			work("certify copper channels", media.UnitEach, float64(t.Terminated), media.PriceKey{Item: media.RateLossTest})
+		}
+		if cords {
+			add(media.CategoryMaterial, "patch cord "+l.Medium, media.UnitEach, 2, media.PriceKey{Item: media.PricePatchCord, Medium: l.Medium})
+		}
+		if a := cat.Application(l.Application); a != nil {
+			add(media.CategoryOptics, "transceiver "+a.Transceiver, media.UnitEach, 2, media.PriceKey{Item: media.PriceTransceiver, Name: a.Transceiver})
+		}
+		if t.Joins > 0 {
+			joins := float64(t.Joins) * n
+			add(media.CategoryMaterial, "splice closure, mid-span join", media.UnitEach, joins, media.PriceKey{Item: media.PriceSpliceClosure})
+			trays := (t.Size.Count + trayStrands(p) - 1) / trayStrands(p)
+			add(media.CategoryMaterial, fmt.Sprintf("splice tray, %d splices", trayStrands(p)), media.UnitEach, joins*float64(trays), media.PriceKey{Item: media.PriceSpliceTray})
+			work("splice fibre, mid-span joins", media.UnitEach, joins*float64(t.Size.Count), media.PriceKey{Item: media.RateSplice})
+		}
+		// Metres pulled by pathway type: spans by their type, risers, coils and entrance
+		// loops in tray, laterals buried, structure loops in duct.
+		for _, st := range l.Steps {
+			sp, _ := r.Site.Net.Span(st.SpanID)
+			pull(sp.Type, sp.LengthM*n)
+		}
+		pull(geo.TypeTray, (l.RiserM+t.EndSlackM+t.EntranceLoopM)*n)
+		pull(geo.TypeBuried, l.LateralM*n)
+		pull(geo.TypeDuct, t.StructureLoopM*n)
+	}
+	for _, c := range e.Buildings {
+		for _, size := range sortedKeys(c.AdapterPanels) {
+			add(media.CategoryMaterial, fmt.Sprintf("adapter panel, %d ports", size), media.UnitEach, float64(c.AdapterPanels[size]), media.PriceKey{Item: media.PriceAdapterPanel, Count: size})
+		}
+		for _, size := range sortedKeys(c.Enclosures) {
+			add(media.CategoryMaterial, fmt.Sprintf("fibre enclosure, %d ports", size), media.UnitEach, float64(c.Enclosures[size]), media.PriceKey{Item: media.PriceEnclosure, Count: size})
+		}
+		for _, size := range sortedKeys(c.CopperPanels) {
+			add(media.CategoryMaterial, fmt.Sprintf("copper patch panel, %d ports", size), media.UnitEach, float64(c.CopperPanels[size]), media.PriceKey{Item: media.PriceCopperPanel, Count: size})
+		}
+		if c.FibreStrands > 0 && len(c.AdapterPanels) == 0 {
+			add(media.CategoryMaterial, "adapter panel", media.UnitEach, 1, media.PriceKey{Item: media.PriceAdapterPanel, Count: c.FibreStrands})
+		}
+		if c.FibreStrands > 0 && len(c.Enclosures) == 0 {
+			add(media.CategoryMaterial, "fibre enclosure", media.UnitEach, 1, media.PriceKey{Item: media.PriceEnclosure, Count: c.FibreStrands})
+		}
+		if c.CopperCables > 0 && len(c.CopperPanels) == 0 {
+			add(media.CategoryMaterial, "copper patch panel", media.UnitEach, 1, media.PriceKey{Item: media.PriceCopperPanel, Count: c.CopperCables})
+		}
+		if c.SpliceTrays > 0 {
+			add(media.CategoryMaterial, fmt.Sprintf("splice tray, %d splices", trayStrands(p)), media.UnitEach, float64(c.SpliceTrays), media.PriceKey{Item: media.PriceSpliceTray})
+		}
+	}
+	con := e.Construction
+	for _, sf := range sortedKeys(con.TrenchM) {
+		add(media.CategoryConstruction, "trench, "+sf, media.UnitM, con.TrenchM[sf], media.PriceKey{Item: media.PriceTrench, Name: sf})
+		add(media.CategoryConstruction, "restoration, "+sf, media.UnitM, con.TrenchM[sf], media.PriceKey{Item: media.PriceRestoration, Name: sf})
+	}
+	add(media.CategoryConstruction, "added duct", media.UnitM, con.AddedDuctM, media.PriceKey{Item: media.PriceAddedDuct})
+	hh := media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole}
+	add(media.CategoryConstruction, "handhole where new pathway joins the network", media.UnitEach, float64(len(con.NewJunctions)), hh)
+	add(media.CategoryConstruction, "handhole for an added pull point", media.UnitEach, float64(e.AddedPullPoints), hh)
+}
+
+func sortedKeys[K int | string, V any](m map[K]V) []K {
+	keys := make([]K, 0, len(m))
+	for k := range m {
+		keys = append(keys, k)
+	}
+	sort.Slice(keys, func(i, j int) bool { return keys[i] < keys[j] })
+	return keys
+}
+
+// ftOrM formats a length for an output edge: metres, or feet when imperial.
+func ftOrM(opt WriteOptions, m float64, decimals int) string {
+	if opt.imperial() {
+		m = install.MToFt(m)
+	}
+	return strconv.FormatFloat(m, 'f', decimals, 64)
+}
