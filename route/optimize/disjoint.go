@@ -40,6 +40,10 @@ type pairScratch struct {
 	p1Mark  []uint32
 	p1Stamp uint32
 
+	flowE, flowV []int32 // per node: the edge and node its flow goes on to
+	flowMark     []uint32
+	flowSt       uint32
+
 	touched  []int32 // states settled by the first search
 	pot      []int64
 	potMark  []uint32
@@ -53,6 +57,7 @@ func newPairScratch(net *Network) *pairScratch {
 		seen: make([]uint32, n), settled: make([]uint32, n),
 		p1Dir: make([]int8, len(net.edges)), p1In: make([]int32, net.nodes), p1Prev: make([]int32, net.nodes),
 		p1Mark: make([]uint32, net.nodes), pot: make([]int64, n), potMark: make([]uint32, n),
+		flowE: make([]int32, net.nodes), flowV: make([]int32, net.nodes), flowMark: make([]uint32, net.nodes),
 	}
 }
 
@@ -131,23 +136,38 @@ func disjointPair(ps *pairScratch, s, t int, w func(e int32) (int64, bool), h he
 			p2 = append(p2, use{e: e, from: ps.pred[x] / 2})
 		}
 	}
-	// Flow out of each node: successor edges after cancellation.
-	nextE := map[int32][]int32{}
-	nextV := map[int32][]int32{}
-	cancelled := map[int32]bool{}
+	// Flow out of each node: successor edges after cancellation (P1 edges that P2 traverses
+	// backwards are marked 2 in p1Dir until unmarkP1).
 	for _, u := range p2 {
 		if ps.p1Dir[u.e] != 0 {
-			cancelled[u.e] = true
+			ps.p1Dir[u.e] = 2
 		}
 	}
+	ps.flowSt++
+	if ps.flowSt == 0 {
+		clear(ps.flowMark)
+		ps.flowSt = 1
+	}
+	var srcE, srcV [2]int32
+	nSrc := 0
 	addFlow := func(from, e int32) {
 		ed := &net.edges[e]
 		to := int32(ed.To)
 		if int32(ed.From) != from {
 			to = int32(ed.From)
 		}
-		nextE[from] = append(nextE[from], e)
-		nextV[from] = append(nextV[from], to)
+		if int(from) == s {
+			if nSrc == 2 {
+				panic("optimize: disjoint pair: source carries more than two units of flow")
+			}
+			srcE[nSrc], srcV[nSrc] = e, to
+			nSrc++
+			return
+		}
+		if ps.flowMark[from] == ps.flowSt {
+			panic("optimize: disjoint pair: interior node carries more than one path")
+		}
+		ps.flowMark[from], ps.flowE[from], ps.flowV[from] = ps.flowSt, e, to
 	}
 	for _, h := range p1 {
 		ed := &net.edges[h.Edge]
@@ -155,23 +175,23 @@ func disjointPair(ps *pairScratch, s, t int, w func(e int32) (int64, bool), h he
 		if !h.Forward {
 			from = int32(ed.To)
 		}
-		if !cancelled[int32(h.Edge)] {
+		if ps.p1Dir[h.Edge] != 2 {
 			addFlow(from, int32(h.Edge))
 		}
 	}
 	for i := len(p2) - 1; i >= 0; i-- {
-		if !cancelled[p2[i].e] {
+		if ps.p1Dir[p2[i].e] != 2 {
 			addFlow(p2[i].from, p2[i].e)
 		}
 	}
 	ps.unmarkP1(p1)
-	if len(nextE[int32(s)]) != 2 {
+	if nSrc != 2 {
 		panic("optimize: disjoint pair: source does not carry two units of flow")
 	}
 	for k := 0; k < 2; k++ {
 		var leg []Hop
 		u := int32(s)
-		e, x := nextE[u][k], nextV[u][k]
+		e, x := srcE[k], srcV[k]
 		for steps := 0; ; steps++ {
 			if steps > len(net.edges) {
 				panic("optimize: disjoint pair: flow does not reach the target")
@@ -182,10 +202,10 @@ func disjointPair(ps *pairScratch, s, t int, w func(e int32) (int64, bool), h he
 				break
 			}
 			u = x
-			if len(nextE[u]) != 1 {
-				panic("optimize: disjoint pair: interior node carries more than one path")
+			if ps.flowMark[u] != ps.flowSt {
+				panic("optimize: disjoint pair: flow stops at an interior node")
 			}
-			e, x = nextE[u][0], nextV[u][0]
+			e, x = ps.flowE[u], ps.flowV[u]
 		}
 		res.legs[k] = leg
 		c, _ := pathEval(net, leg, w)
