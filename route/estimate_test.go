@@ -1,0 +1,719 @@
+package route
+
+import (
+	"bytes"
+	"context"
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"math"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"testing"
+
+	"spanwright/geo"
+	"spanwright/media"
+	"spanwright/route/workbook"
+)
+
+// Pull campus, on a local metre grid at latitude 52 (invented place): the hub A and the
+// served building B are joined by one duct D running (10, 15) inside A, south to (10, 0),
+// east through handhole HH-1 at (110, 0) to (210, 0), then north to (210, 115) inside B:
+// two right-angle bends, one each side of the handhole. A proposed duct P under asphalt
+// runs from (210, 0) east and north into building C, which has no other pathway.
+const pullLat = 52.0
+
+func pullX(m float64) float64 { return -1 + m/(111320*math.Cos(pullLat*math.Pi/180)) }
+func pullY(m float64) float64 { return pullLat + m/111000 }
+
+// pullPoint is a grid point as the campus file has it, with 7 decimals.
+func pullPoint(x, y float64) [2]float64 {
+	r := func(v float64) float64 { f, _ := strconv.ParseFloat(strconv.FormatFloat(v, 'f', 7, 64), 64); return f }
+	return [2]float64{r(pullX(x)), r(pullY(y))}
+}
+
+func pullCampusJSON(ductMM float64, spare int) string {
+	box := func(id, role string, x, y float64) string {
+		r := ""
+		if role != "" {
+			r = fmt.Sprintf(`,"role":%q`, role)
+		}
+		return fmt.Sprintf(`{"type":"Feature","properties":{"kind":"building","id":%q%s},"geometry":{"type":"Polygon","coordinates":[[[%.7f,%.7f],[%.7f,%.7f],[%.7f,%.7f],[%.7f,%.7f],[%.7f,%.7f]]]}}`,
+			id, r, pullX(x-10), pullY(y-10), pullX(x+10), pullY(y-10), pullX(x+10), pullY(y+10), pullX(x-10), pullY(y+10), pullX(x-10), pullY(y-10))
+	}
+	line := func(pts ...float64) string {
+		var s []string
+		for i := 0; i+1 < len(pts); i += 2 {
+			s = append(s, fmt.Sprintf("[%.7f,%.7f]", pullX(pts[i]), pullY(pts[i+1])))
+		}
+		return "[" + strings.Join(s, ",") + "]"
+	}
+	f := []string{
+		box("A", "mc", 10, 25), box("B", "", 210, 125), box("C", "", 300, 25),
+		fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":"D","type":"duct","spare_ducts":%d,"duct_mm":%g},"geometry":{"type":"LineString","coordinates":%s}}`,
+			spare, ductMM, line(10, 15, 10, 0, 110, 0, 210, 0, 210, 115)),
+		fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":"P","type":"duct","status":"proposed","surface":"asphalt","duct_mm":%g},"geometry":{"type":"LineString","coordinates":%s}}`,
+			ductMM, line(210, 0, 300, 0, 300, 15)),
+		fmt.Sprintf(`{"type":"Feature","properties":{"kind":"structure","id":"HH-1","type":"handhole"},"geometry":{"type":"Point","coordinates":[%.7f,%.7f]}}`,
+			pullX(110), pullY(0)),
+	}
+	return `{"type":"FeatureCollection","features":[` + strings.Join(f, ",") + `]}`
+}
+
+// pullSolve plans the pull campus with the plan's defaults, changed by edit.
+func pullSolve(t *testing.T, ductMM float64, spare int, edit func(p *Plan)) (*Result, error) {
+	t.Helper()
+	c, err := geo.Parse("pull.geojson", []byte(pullCampusJSON(ductMM, spare)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	net, err := geo.Build(c, geo.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	p := PlanDefaults
+	p.File, p.Name, p.Hub = "pull.yaml", "pull test", "A"
+	if edit != nil {
+		edit(&p)
+	}
+	eng, err := Engine(&p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return SolveWith(context.Background(), NewSite(c, net), &p, eng)
+}
+
+func legOf(t *testing.T, r *Result, link string) (int, *Leg) {
+	t.Helper()
+	for i := range r.Legs {
+		if r.Legs[i].Link.ID == link && r.Legs[i].Name == LegPrimary {
+			if !r.Legs[i].Feasible {
+				t.Fatalf("%s: infeasible: %s", link, r.Legs[i].Reason)
+			}
+			return i, &r.Legs[i]
+		}
+	}
+	t.Fatalf("no leg %s", link)
+	return 0, nil
+}
+
+// TestPullTensionByHand checks the pulling plan of a simple route against the textbook
+// statics done by hand: a straight adds W·L·μ, a bend multiplies by e^(μθ) (capstan
+// equation), the lower of the two pulling directions wins, and the structure between the
+// bends is a pull point (TIA-569: at most 180° between pull points).
+func TestPullTensionByHand(t *testing.T) {
+	t.Parallel()
+	r, err := pullSolve(t, 100, 2, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	i, leg := legOf(t, r, "A-B")
+	k := r.Engine.Catalog().Medium(leg.Medium).Construction(leg.Construction)
+	size, _ := k.Fit(leg.StrandsCable)
+	w := size.WeightKgPerM * 9.80665 // N/m, standard gravity
+	const mu = 0.5                   // PlanDefaults: the usual value when unknown
+	capstan := math.Exp(mu * math.Pi / 2)
+	// Lengths of the straights, measured between the vertices with the geodesic distance.
+	d := func(x1, y1, x2, y2 float64) float64 {
+		a, b := pullPoint(x1, y1), pullPoint(x2, y2)
+		return geo.DistanceM(a, b)
+	}
+	north, east1 := d(210, 115, 210, 0), d(210, 0, 110, 0)
+	east2, south := d(110, 0, 10, 0), d(10, 0, 10, 15)
+	type want struct {
+		from, to, feed string
+		lengthM, bend  float64
+		tension, other float64
+	}
+	// B → HH-1: 115 m straight, 90°, 100 m. Fed at B: (115·e^(μπ/2) + 100)·W·μ; fed at HH-1:
+	// (100·e^(μπ/2) + 115)·W·μ, the lower. HH-1 → A likewise with 100 m and 15 m.
+	fedB := (north*capstan + east1) * w * mu
+	fedHH := (east1*capstan + north) * w * mu
+	fedHH2 := (east2*capstan + south) * w * mu
+	fedA := (south*capstan + east2) * w * mu
+	wants := []want{
+		{"B", "HH-1", "HH-1", north + east1, 90, fedHH, fedB},
+		{"HH-1", "A", "A", east2 + south, 90, fedA, fedHH2},
+	}
+	var got []PullSection
+	for _, p := range r.Estimate.Pulls {
+		if p.Leg == i {
+			got = append(got, p)
+		}
+	}
+	if len(got) != len(wants) {
+		t.Fatalf("pull sections: got %d %+v, want %d", len(got), got, len(wants))
+	}
+	for n, wt := range wants {
+		g := got[n]
+		if g.From != wt.from || g.To != wt.to || g.FeedAt != wt.feed {
+			t.Errorf("section %d: got %s → %s fed at %s, want %s → %s fed at %s", n+1, g.From, g.To, g.FeedAt, wt.from, wt.to, wt.feed)
+		}
+		if math.Abs(g.LengthM-wt.lengthM) > 1e-6 || math.Abs(g.BendDeg-wt.bend) > 0.01 {
+			t.Errorf("section %d: got %.3f m and %.3f°, want %.3f m and %.0f°", n+1, g.LengthM, g.BendDeg, wt.lengthM, wt.bend)
+		}
+		if math.Abs(g.TensionN-wt.tension) > 0.05 || math.Abs(g.OtherN-wt.other) > 0.05 {
+			t.Errorf("section %d: got %.2f N (other way %.2f N), want %.2f N (%.2f N)", n+1, g.TensionN, g.OtherN, wt.tension, wt.other)
+		}
+		if g.RatedN != k.MaxPullN || !g.WithinRating {
+			t.Errorf("section %d: rated %.0f N within %v, want %.0f N within", n+1, g.RatedN, g.WithinRating, k.MaxPullN)
+		}
+		// TIA-569: conduit bend radius 10 × ID for fibre; SWBP = T/R at the bend (seen).
+		if g.BendRadiusM != 1.0 {
+			t.Errorf("section %d: bend radius %.3f m, want 1.0 m (10 × 100 mm)", n+1, g.BendRadiusM)
+		}
+	}
+	// The SWBP at the bend when fed at A: the tension leaving the bend over its radius.
+	if want := south * w * mu * capstan / 1.0; math.Abs(got[1].SWBPNPerM-want) > 0.05 {
+		t.Errorf("sidewall pressure: got %.2f N/m, want %.2f N/m", got[1].SWBPNPerM, want)
+	}
+}
+
+// TestPullPointAdded: with at most 100 m between pull points (TIA-569 sets 30 m for conduit
+// in buildings; a plan may set any), the 215 m from B to HH-1 needs intermediate pull
+// points, billed as handholes once however many legs pass them; and a bend budget below a
+// single bend cannot be met, which is reported.
+func TestPullPointAdded(t *testing.T) {
+	t.Parallel()
+	r, err := pullSolve(t, 100, 2, func(p *Plan) { p.Design.PullMaxM = 100 })
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r.Estimate.AddedPullPoints == 0 {
+		t.Fatalf("no pull point added")
+	}
+	places := map[string]bool{}
+	for _, p := range r.Estimate.Pulls {
+		if p.LengthM > 100+1e-9 || !p.WithinRating {
+			t.Errorf("pull %s → %s: %.1f m, within %v (%s)", p.From, p.To, p.LengthM, p.WithinRating, p.Reason)
+		}
+		if p.AddedFrom {
+			places[p.From] = true
+		}
+		if p.AddedTo {
+			places[p.To] = true
+		}
+	}
+	if len(places) != r.Estimate.AddedPullPoints {
+		t.Errorf("added pull points %d, at %d places %v", r.Estimate.AddedPullPoints, len(places), places)
+	}
+	if got := bomQty(r.Estimate.BOM, "handhole for an added pull point"); got != float64(r.Estimate.AddedPullPoints) {
+		t.Errorf("handholes billed for pull points: got %v, want %d", got, r.Estimate.AddedPullPoints)
+	}
+
+	r, err = pullSolve(t, 100, 2, func(p *Plan) { p.Design.PullBendDeg = 60 })
+	if err != nil {
+		t.Fatal(err)
+	}
+	i, _ := legOf(t, r, "A-B")
+	var over []string
+	for _, p := range r.Estimate.Pulls {
+		if p.Leg == i && !p.WithinRating {
+			over = append(over, p.Reason)
+		}
+	}
+	// A single 90° bend cannot be split: each bend becomes its own section, out of rating.
+	if len(over) != 2 || !strings.Contains(over[0], "bends 90.0° over 60.0°") {
+		t.Errorf("sections over the bend budget: got %q", over)
+	}
+	found := false
+	for _, w := range r.Warnings {
+		found = found || strings.Contains(w, "A-B primary: pull") && strings.Contains(w, "reroute or add a structure")
+	}
+	if !found {
+		t.Errorf("no pulling warning in %q", r.Warnings)
+	}
+	if s := r.Summarize(); s.PullsOverRating == 0 || s.WarningCounts["install"] == 0 {
+		t.Errorf("summary: %d pulls over rating, warning counts %v", s.PullsOverRating, s.WarningCounts)
+	}
+}
+
+func bomQty(b *media.BOM, item string) float64 {
+	q := 0.0
+	for _, l := range b.Lines {
+		if l.Item == item {
+			q += l.Quantity
+		}
+	}
+	return q
+}
+
+func bomLine(b *media.BOM, prefix string) (media.BOMLine, bool) {
+	for _, l := range b.Lines {
+		if strings.HasPrefix(l.Item, prefix) {
+			return l, true
+		}
+	}
+	return media.BOMLine{}, false
+}
+
+// TestReelJoinsInLossBudget: a run longer than a reel is cut with mid-span splices, which
+// the loss budget counts (ANSI/TIA-568.3-D splice 0.3 dB maximum, from memory) and the
+// bill of materials buys (closures, trays, splicing).
+func TestReelJoinsInLossBudget(t *testing.T) {
+	t.Parallel()
+	base, err := pullSolve(t, 100, 2, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	cut, err := pullSolve(t, 100, 2, func(p *Plan) { p.Design.ReelM = 150 })
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, a := legOf(t, base, "A-B")
+	_, b := legOf(t, cut, "A-B")
+	if a.Cable.Joins != 0 || a.Cable.Reels != 1 {
+		t.Fatalf("4 km reels: got %d reels, %d joins", a.Cable.Reels, a.Cable.Joins)
+	}
+	wantReels := int(math.Ceil(b.Cable.LengthM / 150))
+	if b.Cable.Reels != wantReels || b.Cable.Joins != wantReels-1 || b.Cable.Joins < 2 {
+		t.Fatalf("150 m reels for %.0f m: got %d reels, %d joins, want %d reels", b.Cable.LengthM, b.Cable.Reels, b.Cable.Joins, wantReels)
+	}
+	if a.Medium != b.Medium || a.Construction != b.Construction {
+		t.Fatalf("medium changed: %s %s → %s %s", a.Medium, a.Construction, b.Medium, b.Construction)
+	}
+	splice := base.Engine.Catalog().SpliceDB
+	for n, x := range a.Losses {
+		y := b.Losses[n]
+		if d := y.LossDB - x.LossDB; math.Abs(d-float64(b.Cable.Joins)*splice) > 1e-9 {
+			t.Errorf("%d nm: joins add %.4f dB, want %d × %.2f dB", x.WavelengthNM, d, b.Cable.Joins, splice)
+		}
+	}
+	joins, splices := 0.0, 0
+	for _, l := range cut.Legs {
+		joins += float64(l.Cable.Joins * l.Cable.Cables)
+		splices += l.Cable.Joins * l.Cable.Cables * l.Cable.Size.Count
+	}
+	if got := bomQty(cut.Estimate.BOM, "splice closure, mid-span join"); got != joins {
+		t.Errorf("closures: got %v, want %v", got, joins)
+	}
+	if l, ok := bomLine(cut.Estimate.BOM, "splice fibre, mid-span joins: "); !ok ||
+		!strings.HasPrefix(l.Item, fmt.Sprintf("splice fibre, mid-span joins: %d at", splices)) {
+		t.Errorf("splicing labour: got %+v", l)
+	}
+	if _, ok := bomLine(base.Estimate.BOM, "splice closure"); ok {
+		t.Errorf("closures bought without joins")
+	}
+	if s := cut.Summarize(); s.MidSpanSplices != int(joins) {
+		t.Errorf("summary mid-span splices: got %d", s.MidSpanSplices)
+	}
+}
+
+// TestConstruction: C is reached only over the proposed duct P, whose far end meets D at a
+// junction with no structure (a new handhole there), and D's single 25 mm duct takes one
+// 24-strand cable (NFPA 70 Chapter 9 Table 1: 53 % for one cable) but not two (31 %), so the
+// plan adds a duct where B's and C's cables share it.
+func TestConstruction(t *testing.T) {
+	t.Parallel()
+	r, err := pullSolve(t, 25, 1, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	legOf(t, r, "A-C")
+	if len(r.Opened) != 1 || !strings.HasPrefix(r.Opened[0], "P") {
+		t.Fatalf("opened: got %v, want P", r.Opened)
+	}
+	con := r.Estimate.Construction
+	p, _ := r.Site.Net.Span(r.Opened[0])
+	if math.Abs(con.TrenchM["asphalt"]-p.LengthM) > 1e-9 || len(con.NewJunctions) != 1 {
+		t.Errorf("trench in asphalt %.2f m (want %.2f), new junctions %v", con.TrenchM["asphalt"], p.LengthM, con.NewJunctions)
+	}
+	addedM, addedDucts := 0.0, 0
+	turf := 0.0
+	for _, f := range r.Fill {
+		if f.AddedDucts > 0 {
+			sp, _ := r.Site.Net.Span(f.Span)
+			addedM += float64(f.AddedDucts) * sp.LengthM
+			turf += sp.LengthM
+			addedDucts += f.AddedDucts
+		}
+	}
+	if addedDucts == 0 {
+		t.Fatalf("no duct added: fill %+v", r.Fill)
+	}
+	if math.Abs(con.AddedDuctM-(p.LengthM+addedM)) > 1e-9 || math.Abs(con.TrenchM["turf"]-turf) > 1e-9 {
+		t.Errorf("added duct %.2f m, want %.2f; turf trench %.2f m, want %.2f", con.AddedDuctM, p.LengthM+addedM, con.TrenchM["turf"], turf)
+	}
+	b := r.Estimate.BOM
+	for item, want := range map[string]float64{
+		"trench, asphalt":      math.Round(p.LengthM*10) / 10,
+		"restoration, asphalt": math.Round(p.LengthM*10) / 10,
+		"trench, turf":         math.Round(turf*10) / 10,
+		"added duct":           math.Round((p.LengthM+addedM)*10) / 10,
+		"handhole where new pathway joins the network": 1,
+	} {
+		if got := bomQty(b, item); got != want {
+			t.Errorf("%s: got %v, want %v", item, got, want)
+		}
+	}
+	// Duct fill rows: one cable per 25 mm duct, π/4·d² over π/4·D² (computed).
+	rows := 0
+	for _, f := range r.Estimate.Fill {
+		if f.DuctIDMM != 25 || len(f.CablesODMM) == 0 {
+			continue
+		}
+		rows++
+		want := 100 * f.CablesODMM[0] * f.CablesODMM[0] / (25 * 25)
+		if len(f.CablesODMM) != 1 || math.Abs(f.FillPct-want) > 1e-9 || f.AllowedPct != 53 || !f.OK {
+			t.Errorf("fill %s duct %d: %v cables, %.2f %% of %.0f %%, want one at %.2f %% of 53 %%", f.Span, f.Duct, f.CablesODMM, f.FillPct, f.AllowedPct, want)
+		}
+	}
+	if rows == 0 {
+		t.Errorf("no duct fill rows")
+	}
+	if got := b.CategoryCents(media.CategoryConstruction); got <= 0 {
+		t.Errorf("construction subtotal: got %d", got)
+	}
+}
+
+// TestDuctFillJamBand: three equal cables in one spare duct. NFPA 70 Chapter 9 (seen):
+// 40 % fill for three or more; the 1.05·D/d jam band 2.8-3.2 (informative note, seen).
+func TestDuctFillJamBand(t *testing.T) {
+	t.Parallel()
+	const od = 10.5
+	cases := []struct {
+		name       string
+		idMM       float64
+		wantRows   []int // cables per duct row
+		ratio      float64
+		unplaced   bool
+		allowedPct float64
+	}{
+		// 1.05 × 31.5 / 10.5 = 3.15: in the band, so the third cable is refused (computed).
+		{"in the jam band", 31.5, []int{2}, 0, true, 31},
+		// 1.05 × 40 / 10.5 = 4.0, and 3 × 10.5² / 40² = 20.7 % of 40 % (computed).
+		{"clear of the band", 40, []int{3}, 4.0, false, 40},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			net := &geo.Network{Spans: []geo.Span{{ID: "S1", PathwayID: "P1", DuctMM: tc.idMM, LengthM: 10, Type: geo.TypeDuct}}}
+			r := &Result{Site: &Site{Net: net}, Estimate: &Estimate{},
+				Fill: []SegmentFill{{Span: "S1", PathwayID: "P1", Cables: 3, Limited: true, Ducts: 1}}}
+			for range 3 {
+				r.Legs = append(r.Legs, Leg{Feasible: true, Steps: []geo.Step{{SpanID: "S1"}},
+					Cable: CableTakeoff{Size: media.Size{Count: 24, ODMM: od}, Cables: 1}})
+			}
+			r.ductFill()
+			var got []int
+			for _, f := range r.Estimate.Fill {
+				got = append(got, len(f.CablesODMM))
+				if f.AllowedPct != tc.allowedPct || math.Abs(f.JamRatio-tc.ratio) > 1e-9 || f.JamRisk || !f.OK {
+					t.Errorf("%s: row %+v, want limit %.0f %% and ratio %.2f", tc.name, f, tc.allowedPct, tc.ratio)
+				}
+				if want := 100 * float64(len(f.CablesODMM)) * od * od / (tc.idMM * tc.idMM); math.Abs(f.FillPct-want) > 1e-9 {
+					t.Errorf("%s: fill %.3f %%, want %.3f %%", tc.name, f.FillPct, want)
+				}
+			}
+			if fmt.Sprint(got) != fmt.Sprint(tc.wantRows) {
+				t.Errorf("%s: cables per duct %v, want %v", tc.name, got, tc.wantRows)
+			}
+			warned := len(r.Estimate.Warnings) == 1 && strings.Contains(r.Estimate.Warnings[0], "1 of 3 cables fit no duct")
+			if warned != tc.unplaced {
+				t.Errorf("%s: warnings %q", tc.name, r.Estimate.Warnings)
+			}
+		})
+	}
+}
+
+// TestMissingPriceNamed: a price book without the enclosures and OTDR rate the plan needs is
+// rejected, every missing item named by its key.
+func TestMissingPriceNamed(t *testing.T) {
+	t.Parallel()
+	data, err := os.ReadFile(filepath.Join("..", "media", "prices-demo.yaml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var keep []string
+	for _, line := range strings.Split(string(data), "\n") {
+		if strings.HasPrefix(line, "fibre_enclosures:") {
+			continue
+		}
+		keep = append(keep, strings.Replace(line, "{loss: 20, otdr: 12}", "{loss: 20}", 1))
+	}
+	dir := t.TempDir()
+	path := filepath.Join(dir, "prices.yaml")
+	if err := os.WriteFile(path, []byte(strings.Join(keep, "\n")), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	_, err = pullSolve(t, 100, 2, func(p *Plan) { p.Prices = path })
+	if err == nil || !errors.Is(err, media.ErrMissingPrice) {
+		t.Fatalf("got %v, want a missing price", err)
+	}
+	for _, want := range []string{"add fibre_enclosures.24", "add labour.tests_per_hour.otdr", path} {
+		if !strings.Contains(err.Error(), want) {
+			t.Errorf("error %q lacks %q", err, want)
+		}
+	}
+}
+
+// TestBOMOutputsAddUp parses bom.csv of the demo and checks that every subtotal is the sum
+// of its lines, every extended price its quantity times unit price, and the markups and
+// total those of the price book; summary.json says the same.
+func TestBOMOutputsAddUp(t *testing.T) {
+	t.Parallel()
+	r := demoResult(t)
+	files, err := r.Outputs(WriteOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	rows := readCSV(t, fileOf(t, files, "bom.csv"))
+	if got := strings.Join(rows[0], ","); got != "category,item,unit,quantity,unit_price_usd,extended_usd" {
+		t.Fatalf("header: %s", got)
+	}
+	cents := func(s string) int64 {
+		c, err := ParseCents(strings.TrimPrefix(s, "-"))
+		if err != nil {
+			t.Fatalf("amount %q: %v", s, err)
+		}
+		return c
+	}
+	byCat := map[string]int64{}
+	sub := map[string]int64{}
+	var all, cont, over, tax, total int64
+	for _, row := range rows[1:] {
+		switch row[0] {
+		case media.CategoryMaterial, media.CategoryLabour, media.CategoryConstruction, media.CategoryOptics:
+			qty, _ := strconv.ParseFloat(row[3], 64)
+			if want := media.ExtendCents(int64(math.Round(qty*100)), cents(row[4])); cents(row[5]) != want {
+				t.Errorf("%s: extended %s, want %s", row[1], row[5], media.FormatCents(want))
+			}
+			byCat[row[0]] += cents(row[5])
+		case rowSubtotal:
+			if row[1] == "all categories" {
+				all = cents(row[5])
+			} else {
+				sub[row[1]] = cents(row[5])
+			}
+		case rowContingency:
+			cont = cents(row[5])
+		case rowOverhead:
+			over = cents(row[5])
+		case rowTax:
+			tax = cents(row[5])
+		case rowTotal:
+			total = cents(row[5])
+		}
+	}
+	var sum int64
+	for _, c := range media.Categories() {
+		if sub[c] != byCat[c] {
+			t.Errorf("%s: subtotal %d, lines sum to %d", c, sub[c], byCat[c])
+		}
+		sum += sub[c]
+	}
+	book := r.Engine.PriceBook()
+	if all != sum || cont != media.ApplyBP(all, book.ContingencyBP) || over != media.ApplyBP(all, book.OverheadBP) ||
+		tax != media.ApplyBP(all+cont+over, book.TaxBP) || total != all+cont+over+tax {
+		t.Errorf("totals: subtotal %d (sum %d), contingency %d, overhead %d, tax %d, total %d", all, sum, cont, over, tax, total)
+	}
+	s := r.Summarize()
+	if s.TotalCents != total || s.SubtotalCents != all || s.CostByCategory[media.CategoryLabour] != sub[media.CategoryLabour] ||
+		s.OverBudgetCents != total-s.BudgetCents || len(s.CostDrivers) != 5 {
+		t.Errorf("summary: %+v", s)
+	}
+	var model int64
+	for _, l := range r.Legs {
+		model += l.Cost.TotalCents()
+	}
+	if s.ModelCents != model {
+		t.Errorf("model cost: got %d, want %d", s.ModelCents, model)
+	}
+}
+
+func demoResult(t *testing.T) *Result {
+	t.Helper()
+	s, p := demoSite(t)
+	eng, err := Engine(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, err := SolveWith(context.Background(), s, p, eng)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return r
+}
+
+func fileOf(t *testing.T, files []OutputFile, name string) []byte {
+	t.Helper()
+	for _, f := range files {
+		if f.Name == name {
+			return f.Data
+		}
+	}
+	t.Fatalf("no output %s", name)
+	return nil
+}
+
+func readCSV(t *testing.T, data []byte) [][]string {
+	t.Helper()
+	rows, err := csv.NewReader(bytes.NewReader(data)).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	return rows
+}
+
+// TestBOMWorkbook opens bom.xlsx back and checks its formulas and their results against
+// the bill of materials, then changes a unit price as an estimator would and checks that
+// the total moves by what the price book's markups give.
+func TestBOMWorkbook(t *testing.T) {
+	t.Parallel()
+	r := demoResult(t)
+	b := r.Estimate.BOM
+	for _, opt := range []WriteOptions{{}, {Units: UnitsImperial}} {
+		t.Run("units "+opt.Units, func(t *testing.T) {
+			files, err := r.Outputs(opt)
+			if err != nil {
+				t.Fatal(err)
+			}
+			x, err := workbook.Open(fileOf(t, files, "bom.xlsx"))
+			if err != nil {
+				t.Fatal(err)
+			}
+			defer x.Close()
+			want := []string{"summary", "links", "bill of materials", "pull sections", "duct fill", "loss budgets"}
+			if got := x.Sheets(); fmt.Sprint(got) != fmt.Sprint(want) {
+				t.Fatalf("sheets: got %v, want %v", got, want)
+			}
+			const sh = "bill of materials"
+			num := func(sheet, ref string) float64 {
+				t.Helper()
+				v, err := x.Calc(sheet, ref)
+				if err != nil {
+					t.Fatal(err)
+				}
+				f, err := strconv.ParseFloat(v, 64)
+				if err != nil {
+					t.Fatalf("%s!%s: %q is not a number", sheet, ref, v)
+				}
+				return f
+			}
+			cents := func(f float64) int64 { return int64(math.Round(f * 100)) }
+			for i, l := range b.Lines {
+				row := i + 2
+				if f, _ := x.Formula(sh, fmt.Sprintf("F%d", row)); f != fmt.Sprintf("ROUND(D%d*E%d,2)", row, row) {
+					t.Errorf("F%d formula: %q", row, f)
+				}
+				if got := cents(num(sh, fmt.Sprintf("F%d", row))); got != l.ExtendedCents {
+					t.Errorf("%s: extended %d, want %d", l.Item, got, l.ExtendedCents)
+				}
+			}
+			n := len(b.Lines)
+			totalRow := n + 1 + 1 + len(b.Subtotal) + 5 // lines, a blank row, subtotals, all, three markups, total
+			if v, _ := x.Value(sh, fmt.Sprintf("A%d", totalRow)); v != rowTotal {
+				t.Fatalf("row %d is %q, not the total", totalRow, v)
+			}
+			totalRef := fmt.Sprintf("F%d", totalRow)
+			if got := cents(num(sh, totalRef)); got != b.TotalCents {
+				t.Errorf("total: got %d, want %d", got, b.TotalCents)
+			}
+			if got := cents(num("summary", "B21")); got != b.TotalCents {
+				v, _ := x.Value("summary", "A21")
+				t.Errorf("summary %s: got %d, want total %d", v, got, b.TotalCents)
+			}
+			if got := cents(num("summary", "B23")); got != b.TotalCents-int64(r.Plan.Budget) {
+				t.Errorf("summary over budget: got %d", got)
+			}
+			// An estimator raises the first line's unit price by 1.00 (per unit shown).
+			price := num(sh, "E2")
+			qty := num(sh, "D2")
+			if err := x.SetNumber(sh, "E2", price+1); err != nil {
+				t.Fatal(err)
+			}
+			book := r.Engine.PriceBook()
+			sub := b.SubtotalCents + cents(math.Round(qty*(price+1)*100)/100) - b.Lines[0].ExtendedCents
+			cont, over := media.ApplyBP(sub, book.ContingencyBP), media.ApplyBP(sub, book.OverheadBP)
+			moved := sub + cont + over + media.ApplyBP(sub+cont+over, book.TaxBP)
+			if got := cents(num(sh, totalRef)); got != moved || got == b.TotalCents {
+				t.Errorf("total after the edit: got %d, want %d (was %d)", got, moved, b.TotalCents)
+			}
+			if got := cents(num("summary", "B21")); got != moved {
+				t.Errorf("summary total after the edit: got %d, want %d", got, moved)
+			}
+		})
+	}
+}
+
+// TestImperialEdges: bom.csv in feet keeps the metric extended prices, and the pull
+// sheet's tensions are in pound-force.
+func TestImperialEdges(t *testing.T) {
+	t.Parallel()
+	r := demoResult(t)
+	files, err := r.Outputs(WriteOptions{Units: UnitsImperial})
+	if err != nil {
+		t.Fatal(err)
+	}
+	rows := readCSV(t, fileOf(t, files, "bom.csv"))
+	b := r.Estimate.BOM
+	feet := 0
+	for i, l := range b.Lines {
+		row := rows[i+1]
+		if l.Unit != media.UnitM {
+			continue
+		}
+		feet++
+		qty, _ := strconv.ParseFloat(row[3], 64)
+		price, _ := strconv.ParseFloat(row[4], 64)
+		ext, _ := ParseCents(row[5])
+		// 1 ft = 0.3048 m exactly: the quantity in feet times the price per foot is the
+		// metric line within the rounding of the shown figures.
+		if row[2] != "ft" || ext != l.ExtendedCents || math.Abs(qty*price-float64(l.ExtendedCents)/100) > 0.05*price+0.00005*qty+0.01 {
+			t.Errorf("%s: %v, want feet and %s", l.Item, row, media.FormatCents(l.ExtendedCents))
+		}
+	}
+	if feet == 0 {
+		t.Errorf("no length line")
+	}
+	x, err := workbook.Open(fileOf(t, files, "bom.xlsx"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer x.Close()
+	for ref, want := range map[string]string{"L1": "tension (lbf)", "I1": "length (ft)", "P1": "sidewall pressure (lbf/ft)"} {
+		if v, _ := x.Value("pull sections", ref); v != want {
+			t.Errorf("pull sections %s: got %q, want %q", ref, v, want)
+		}
+	}
+	v, _ := x.Value("pull sections", "L2")
+	lbf, _ := strconv.ParseFloat(v, 64)
+	// 1 lbf = 4.4482216152605 N exactly.
+	if want := r.Estimate.Pulls[0].TensionN / 4.4482216152605; math.Abs(lbf-want) > 1e-9 {
+		t.Errorf("tension: got %v lbf, want %v", lbf, want)
+	}
+	var out bytes.Buffer
+	if err := r.PrintSummary(&out, WriteOptions{Units: UnitsImperial}); err != nil {
+		t.Fatal(err)
+	}
+	if s := out.String(); !strings.Contains(s, " lbf rated") || !strings.Contains(s, " ft in all") || strings.Contains(s, " m ") {
+		t.Errorf("imperial summary:\n%s", s)
+	}
+}
+
+func TestDesignValidation(t *testing.T) {
+	t.Parallel()
+	cases := []struct {
+		name, design, want string
+	}{
+		{"waste over 100", "{waste_pct: 150}", "design.waste_pct: invalid plan: want a percentage from 0 to 100, got 150"},
+		{"negative loop", "{slack_loop_structure_m: -1}", "design.slack_loop_structure_m: invalid plan: want metres >= 0, got -1"},
+		{"reel shorter than copper", "{reel_m: 50}", "design.reel_m: invalid plan: want metres >= 100"},
+		{"friction NaN", "{pull_mu: .nan}", "design.pull_mu: invalid plan: want a coefficient of friction from 0 to 2, got NaN"},
+		{"bends over NFPA 70", "{pull_bend_deg: 400}", "design.pull_bend_deg: invalid plan: want degrees above 0 and at most 360"},
+		{"negative pull length", "{pull_max_m: -5}", "design.pull_max_m: invalid plan: want metres >= 0 (0: no limit), got -5"},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			_, err := ParsePlan("p.yaml", []byte("campus: [c.geojson]\ndesign: "+tc.design+"\n"))
+			if err == nil || !strings.Contains(err.Error(), tc.want) {
+				t.Errorf("%s: got %v, want %q", tc.name, err, tc.want)
+			}
+		})
+	}
+	p, err := ParsePlan("p.yaml", []byte("campus: [c.geojson]\ndesign: {pull_mu: 0.35, reel_m: 2000}\n"))
+	if err != nil || p.Design.PullMu != 0.35 || p.Design.ReelM != 2000 || p.Design.WastePct != 5 || p.Design.PullBendDeg != 180 {
+		t.Errorf("design: got %+v (%v)", p.Design, err)
+	}
+}
