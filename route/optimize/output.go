@@ -135,7 +135,11 @@ func (sv *solver) reason(d int) string {
 		op := &dm.Options[o]
 		name := fmt.Sprintf("option %d (%q)", o, op.Name)
 		excl := op.ExcludeFlags
-		comp := sv.net.components(func(e int) bool { return sv.usable(e, excl) })
+		comp, ok := sv.comps[excl]
+		if !ok {
+			comp = sv.net.components(func(e int) bool { return sv.usable(e, excl) })
+			sv.comps[excl] = comp
+		}
 		lt := sv.lenTree(t, excl)
 		switch {
 		case comp[s] != comp[t] && excl != 0:

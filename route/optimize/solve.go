@@ -132,6 +132,7 @@ type solver struct {
 	failedClose map[int32]uint64  // edge → signature of its users when closing it failed
 	failedOpen  map[string]uint64 // candidate → signature of its demands when opening failed
 	lenTrees    map[[2]int]*tree  // (anchor, exclusion class)
+	comps       map[uint64][]int  // excluded flags → component label per node (for reasons)
 
 	cap capacity
 	st  *state
@@ -161,7 +162,7 @@ func newSolver(p *Problem, opt Settings) *solver {
 		p: p, net: net, length: opt.Objective == ObjectiveLength, maxRounds: opt.MaxRounds,
 		lenClass: map[uint64]int{}, fixedE: make([]int64, ne), limited: make([]bool, ne), tracked: make([]bool, ne),
 		ductCent: make([]int64, ne), groups: map[int][]int32{},
-		costTrees: map[[2]int]*tree{}, lenTrees: map[[2]int]*tree{},
+		costTrees: map[[2]int]*tree{}, lenTrees: map[[2]int]*tree{}, comps: map[uint64][]int{},
 		failedClose: map[int32]uint64{}, failedOpen: map[string]uint64{},
 		cap:    capacity{edges: p.Edges, fits: p.Fits},
 		forbid: make([]bool, ne), phantom: make([]bool, ne), blk: make([]uint32, ne),
@@ -500,6 +501,9 @@ func (sv *solver) remove(d int) choice {
 // then account the exact duct count, so a move is judged on the exact cost.
 func (sv *solver) penalty(d, o int, e int32, areaMM2 float64) (int64, bool) {
 	st := sv.st
+	if areaMM2 == 0 {
+		return 0, true // a cable that takes no duct area
+	}
 	if sv.cap.fits == nil {
 		var pen int64
 		switch {
