@@ -306,3 +306,52 @@ func TestSavingsOverIndependentRouting(t *testing.T) {
 		}
 	}
 }
+
+// TestCampusPlansValid solves small synthetic campuses with every feature on (diverse
+// demands, duct capacity, reach limits, proposed trenches, three media) and checks each plan
+// with the independent verifier, and that the solver's incremental cost equals the sum of the
+// reported breakdowns.
+func TestCampusPlansValid(t *testing.T) {
+	t.Parallel()
+	for seed := uint64(1); seed <= 8; seed++ {
+		spec := campusSpec{buildings: 20 + 10*int(seed%3), seed: seed, diverseFrac: 0.3, options: 3, capacity: true, proposedPct: 12, trenchScale: 0.3}
+		p := campus(spec)
+		for _, hook := range []bool{false, true} {
+			q := *p
+			if hook { // at most 12 cables per duct, whatever their size
+				q.Fits = func(edge int, ods []float64, ducts int) bool { return len(ods) <= 12*ducts }
+			}
+			sv := newSolver(&q, Settings{})
+			sv.run()
+			sol := sv.solution()
+			name := fmt.Sprintf("seed %d hook %v", seed, hook)
+			verify(t, name, &q, sol)
+			if got := sv.key().total; got != sol.TotalCents {
+				t.Errorf("%s: incremental total %d, breakdowns sum to %d", name, got, sol.TotalCents)
+			}
+			for _, f := range sol.Fill {
+				if !f.Limited {
+					continue
+				}
+				var ods []float64
+				for _, r := range sol.Routes {
+					for _, leg := range []Leg{r.Primary, r.Secondary} {
+						for _, h := range leg.Hops {
+							if h.Edge == f.Edge {
+								ods = append(ods, q.Demands[r.Demand].Options[r.Option].CableODMM)
+							}
+						}
+					}
+				}
+				ducts := q.Edges[f.Edge].Ducts + f.AddedDucts
+				fits := NFPAFits(q.Edges[f.Edge].DuctIDMM, ods, ducts)
+				if hook {
+					fits = len(ods) <= 12*ducts
+				}
+				if !fits {
+					t.Errorf("%s: edge %d: %d cables do not fit %d ducts", name, f.Edge, len(ods), ducts)
+				}
+			}
+		}
+	}
+}
