@@ -1,12 +1,17 @@
 package workbook
 
 import (
+	"archive/zip"
 	"bytes"
+	"compress/flate"
 	"fmt"
 	"io"
+	"io/fs"
 	"math"
+	"sort"
 	"strconv"
 	"strings"
+	"sync"
 	"unicode/utf8"
 
 	"github.com/xuri/excelize/v2"
@@ -243,6 +248,7 @@ func (w *Workbook) build() (*excelize.File, error) {
 		seen[key] = true
 	}
 	f := excelize.NewFile()
+	f.SetZipWriter(newSortedZip)
 	b := &builder{f: f, styles: map[styleKey]int{}}
 	for i, s := range w.sheets {
 		var err error
@@ -259,7 +265,8 @@ func (w *Workbook) build() (*excelize.File, error) {
 			return nil, fmt.Errorf("workbook: sheet %q: %w", s.Name, err)
 		}
 	}
-	f.SetActiveSheet(0)
+	// The first sheet is active in a new file. Setting it again would make excelize read every
+	// streamed sheet back in.
 	full := true
 	if err := f.SetCalcProps(&excelize.CalcPropsOptions{FullCalcOnLoad: &full}); err != nil {
 		f.Close()
@@ -312,86 +319,167 @@ func (b *builder) style(k styleKey) (int, error) {
 	return id, nil
 }
 
+// sheet writes one sheet with excelize's stream writer, which renders rows straight to XML:
+// widths, panes and the filter are set first, then the rows.
 func (b *builder) sheet(s *Sheet) error {
 	f := b.f
 	widths := make([]int, len(s.Columns))
-	hdr, err := b.style(styleKey{header: true, decimals: -2})
-	if err != nil {
-		return err
-	}
 	for c, col := range s.Columns {
-		ref := Ref(c, 1)
-		if err := f.SetCellStr(s.Name, ref, col.Header()); err != nil {
-			return err
-		}
-		if err := f.SetCellStyle(s.Name, ref, ref, hdr); err != nil {
-			return err
-		}
 		widths[c] = utf8.RuneCountInString(col.Header()) + 2 // room for filter buttons
 	}
-	for r, row := range s.rows {
+	for _, row := range s.rows {
 		for c, cell := range row {
-			ref := Ref(c, r+2)
-			if err := b.cell(s.Name, ref, cell); err != nil {
-				return fmt.Errorf("cell %s: %w", ref, err)
-			}
 			if n := utf8.RuneCountInString(cell.display()); n > widths[c] {
 				widths[c] = n
 			}
 		}
+	}
+	if s.Filter && len(s.Columns) > 0 {
+		last := Ref(len(s.Columns)-1, max(len(s.rows)+1, 1))
+		if err := f.AutoFilter(s.Name, "A1:"+last, nil); err != nil {
+			return err
+		}
+	}
+	sw, err := f.NewStreamWriter(s.Name)
+	if err != nil {
+		return err
 	}
 	for c, col := range s.Columns {
 		width := col.Width
 		if width <= 0 {
 			width = float64(min(max(widths[c]+1, MinWidth), MaxWidth))
 		}
-		name := ColumnName(c)
-		if err := f.SetColWidth(s.Name, name, name, width); err != nil {
+		if err := sw.SetColWidth(c+1, c+1, width); err != nil {
 			return err
 		}
 	}
 	if len(s.Columns) > 0 {
-		if err := f.SetPanes(s.Name, &excelize.Panes{Freeze: true, YSplit: 1, TopLeftCell: "A2", ActivePane: "bottomLeft",
+		if err := sw.SetPanes(&excelize.Panes{Freeze: true, YSplit: 1, TopLeftCell: "A2", ActivePane: "bottomLeft",
 			Selection: []excelize.Selection{{SQRef: "A2", ActiveCell: "A2", Pane: "bottomLeft"}}}); err != nil {
 			return err
 		}
-		if s.Filter {
-			last := Ref(len(s.Columns)-1, max(len(s.rows)+1, 1))
-			if err := f.AutoFilter(s.Name, "A1:"+last, nil); err != nil {
-				return err
-			}
+		hdr, err := b.style(styleKey{header: true, decimals: -2})
+		if err != nil {
+			return err
+		}
+		vals := make([]any, len(s.Columns))
+		for c, col := range s.Columns {
+			vals[c] = excelize.Cell{StyleID: hdr, Value: col.Header()}
+		}
+		if err := sw.SetRow("A1", vals); err != nil {
+			return err
 		}
 	}
-	return nil
+	for r, row := range s.rows {
+		vals := make([]any, len(row))
+		for c, cell := range row {
+			v, err := b.value(cell)
+			if err != nil {
+				return fmt.Errorf("cell %s: %w", Ref(c, r+2), err)
+			}
+			vals[c] = v
+		}
+		if err := sw.SetRow(Ref(0, r+2), vals); err != nil {
+			return fmt.Errorf("row %d: %w", r+2, err)
+		}
+	}
+	return sw.Flush()
 }
 
-func (b *builder) cell(sheet, ref string, c Cell) error {
-	f := b.f
+// value is the stream writer's form of a cell; nil for a blank.
+func (b *builder) value(c Cell) (any, error) {
 	switch c.kind {
 	case kindBlank:
-		return nil
+		return nil, nil
 	case kindText:
-		return f.SetCellStr(sheet, ref, c.text)
+		return c.text, nil
 	case kindBool:
-		return f.SetCellBool(sheet, ref, c.b)
+		return c.b, nil
 	case kindNumber, kindFormula:
-		var err error
+		out := excelize.Cell{}
 		if c.kind == kindNumber {
-			err = f.SetCellFloat(sheet, ref, c.num, -1, 64)
+			out.Value = c.num
 		} else {
-			err = f.SetCellFormula(sheet, ref, c.text)
+			out.Formula = c.text
 		}
-		if err != nil {
-			return err
+		if c.decimals >= 0 {
+			id, err := b.style(styleKey{decimals: c.decimals})
+			if err != nil {
+				return nil, err
+			}
+			out.StyleID = id
 		}
-		if c.decimals < 0 {
-			return nil
-		}
-		id, err := b.style(styleKey{decimals: c.decimals})
-		if err != nil {
-			return err
-		}
-		return f.SetCellStyle(sheet, ref, ref, id)
+		return out, nil
 	}
 	panic("workbook: unknown cell kind")
+}
+
+// sortedZip collects the parts excelize writes and stores them in name order when closed:
+// excelize writes streamed sheets in map order, which would change the bytes from run to run.
+type sortedZip struct {
+	w     io.Writer
+	parts map[string]*bytes.Buffer
+}
+
+func newSortedZip(w io.Writer) excelize.ZipWriter {
+	return &sortedZip{w: w, parts: map[string]*bytes.Buffer{}}
+}
+
+func (z *sortedZip) Create(name string) (io.Writer, error) {
+	b := &bytes.Buffer{}
+	z.parts[name] = b
+	return b, nil
+}
+
+func (z *sortedZip) AddFS(fs.FS) error {
+	return fmt.Errorf("workbook: adding a file system to a workbook is not supported")
+}
+
+func (z *sortedZip) Close() error {
+	names := make([]string, 0, len(z.parts))
+	for n := range z.parts {
+		names = append(names, n)
+	}
+	sort.Strings(names)
+	zw := zip.NewWriter(z.w)
+	zw.RegisterCompressor(zip.Deflate, fastDeflate)
+	for _, n := range names {
+		fw, err := zw.CreateHeader(&zip.FileHeader{Name: n, Method: zip.Deflate})
+		if err != nil {
+			return err
+		}
+		if _, err := fw.Write(z.parts[n].Bytes()); err != nil {
+			return err
+		}
+	}
+	return zw.Close()
+}
+
+// flateWriters are reused: a compressor holds about a megabyte of state.
+var flateWriters = sync.Pool{New: func() any {
+	w, err := flate.NewWriter(io.Discard, flate.BestSpeed)
+	if err != nil {
+		panic("workbook: " + err.Error())
+	}
+	return w
+}}
+
+// fastDeflate compresses parts at deflate's best speed: a spreadsheet's XML is repetitive, so
+// the file stays small, and sweeps write one workbook per scenario.
+func fastDeflate(w io.Writer) (io.WriteCloser, error) {
+	fw := flateWriters.Get().(*flate.Writer)
+	fw.Reset(w)
+	return &pooledFlate{fw}, nil
+}
+
+type pooledFlate struct{ *flate.Writer }
+
+func (p *pooledFlate) Close() error {
+	if p.Writer == nil {
+		return nil
+	}
+	err := p.Writer.Close()
+	flateWriters.Put(p.Writer)
+	p.Writer = nil
+	return err
 }
