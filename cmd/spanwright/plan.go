@@ -10,6 +10,7 @@ import (
 	"github.com/urfave/cli/v2"
 
 	"spanwright/route"
+	"spanwright/route/report"
 )
 
 func planCommand() *cli.Command {
@@ -52,7 +53,15 @@ func runPlan(ctx context.Context, fsys fs.FS, p *route.Plan, out string, opt rou
 	if err != nil {
 		return err
 	}
-	if err := res.Write(out, opt); err != nil {
+	files, err := res.Outputs(opt)
+	if err != nil {
+		return err
+	}
+	rep, err := report.File(res, report.Options{Units: opt.Units})
+	if err != nil {
+		return err
+	}
+	if err := route.WriteFiles(out, append(files, rep), res.Inputs()); err != nil {
 		return err
 	}
 	if err := res.PrintSummary(w, opt); err != nil {

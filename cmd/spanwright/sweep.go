@@ -6,7 +6,9 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"path/filepath"
 	"runtime"
+	"sort"
 	"strings"
 	"time"
 
@@ -15,6 +17,7 @@ import (
 	"golang.org/x/term"
 
 	"spanwright/route"
+	"spanwright/route/report"
 	"spanwright/route/sweep"
 )
 
@@ -87,10 +90,18 @@ func runSweep(ctx context.Context, o sweepOptions, stdout, stderr io.Writer) err
 	}
 	prog := newProgress(stderr, o.quiet)
 	rep, err := sweep.Run(ctx, f, sweep.Options{Out: o.out, Jobs: o.jobs, Resume: o.resume, Shard: o.shard,
-		Write: o.write, Progress: prog.update})
+		Write: o.write, Progress: prog.update, Extra: report.Extra(report.Options{Units: o.write.Units})})
 	prog.finish()
 	if err != nil {
 		return err
+	}
+	if o.shard.Whole() {
+		more, err := sweep.CompareExtra(o.out, report.SweepFiles(report.SweepOptions{Title: filepath.Base(o.file)}))
+		if err != nil {
+			return err
+		}
+		rep.Files = append(rep.Files, more...)
+		sort.Strings(rep.Files)
 	}
 	printReport(stdout, rep, o.shard)
 	return outcome(rep)

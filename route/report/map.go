@@ -1,0 +1,292 @@
+package report
+
+import (
+	"fmt"
+	"sort"
+	"strings"
+
+	"spanwright/geo"
+	"spanwright/route"
+)
+
+// Map drawing sizes, in SVG pixels.
+const (
+	mapWidthPx     = 1000.0
+	mapMaxHeightPx = 1100.0
+	mapMarginPx    = 36.0
+	// diverseOffsetPx shifts a diverse leg to the right of its travel direction, so that it
+	// stays visible where it runs beside its primary leg or shares an entrance with it.
+	diverseOffsetPx = 6.0
+)
+
+type svgPath struct {
+	D     string
+	Class string
+	Title string
+}
+
+type buildingShape struct {
+	svgPath
+	ID       string
+	LabelX   string
+	LabelY   string
+	LabelCls string
+}
+
+type routePath struct {
+	D      string
+	Stroke string
+	Dash   string
+	Leg    string // link id + "/" + leg name: the data-leg attribute
+	Medium string
+	Title  string
+}
+
+type mark struct {
+	X, Y  string
+	Shape string // "circle", "square", "diamond"
+	Class string
+	Title string
+}
+
+type scaleBar struct {
+	X, Y      string
+	Segs      []scaleSeg
+	Label     string
+	LabelX    string
+	LabelY    string
+	ZeroX     string
+	EndX      string
+	TickY     string
+	TextY     string
+	TotalW    string
+	BarHeight string
+}
+
+type scaleSeg struct {
+	X, W  string
+	Class string
+}
+
+type mapView struct {
+	W, H       string
+	Halos      []svgPath
+	Buildings  []buildingShape
+	Pathways   []svgPath
+	Laterals   []svgPath
+	Routes     []routePath
+	Structures []mark
+	Scale      scaleBar
+	NorthX     string
+	NorthY     string
+	Empty      bool // nothing to draw
+}
+
+// coords copies a line of [lon, lat] points (a geo line or ring) as plain pairs.
+func coords[P ~[2]float64](ls []P) [][2]float64 {
+	out := make([][2]float64, len(ls))
+	for i, q := range ls {
+		out[i] = q
+	}
+	return out
+}
+
+// pathwayClass is the CSS class of a span: by type for existing pathways; proposed pathways
+// are dashed, heavier when the plan opens them.
+func pathwayClass(s *geo.Span, opened bool) string {
+	if s.Status == geo.StatusProposed {
+		if opened {
+			return "pw-new"
+		}
+		return "pw-proposed"
+	}
+	switch s.Type {
+	case geo.TypeDuct, geo.TypeTunnel, geo.TypeAerial, geo.TypeBuried, geo.TypeTray:
+		return "pw-" + s.Type
+	}
+	return "pw-other"
+}
+
+func structureShape(t string) string {
+	switch t {
+	case "maintenance-hole":
+		return "circle"
+	case "handhole":
+		return "square"
+	}
+	return "diamond"
+}
+
+// buildMap draws the campus and the result's feasible legs.
+func buildMap(r *route.Result, opt Options, med map[string]mediumInfo) (mapView, error) {
+	c, net := r.Site.Campus, r.Site.Net
+	var b bounds
+	for _, bd := range c.Buildings {
+		for _, poly := range bd.Footprint {
+			for _, ring := range poly {
+				for _, q := range ring {
+					b.add(q[0], q[1])
+				}
+			}
+		}
+	}
+	for _, s := range net.Spans {
+		for _, q := range s.Line {
+			b.add(q[0], q[1])
+		}
+	}
+	for _, s := range c.Structures {
+		b.add(s.Point[0], s.Point[1])
+	}
+	for _, a := range net.Access {
+		for _, q := range a.Lateral {
+			b.add(q[0], q[1])
+		}
+	}
+	p := newProjection(b, mapWidthPx, mapMaxHeightPx, mapMarginPx)
+	m := mapView{W: num(p.widthPx), H: num(p.heightPx), Empty: !b.any}
+
+	roles := map[string]string{}
+	for _, bd := range c.Buildings {
+		roles[bd.ID] = bd.Role
+	}
+	for _, bd := range c.Buildings {
+		var d strings.Builder
+		var best xy
+		bestA := -1.0
+		for _, poly := range bd.Footprint {
+			for k, ring := range poly {
+				px := p.line(coords(ring))
+				ringD(&d, px)
+				if k == 0 {
+					if cen, a := ringCentroid(px); a > bestA {
+						best, bestA = cen, a
+					}
+				}
+			}
+		}
+		cls, lcls := "bldg", "lbl"
+		role := ""
+		switch {
+		case bd.ID == r.Hub:
+			cls, lcls, role = "bldg hub", "lbl xc", "hub, main cross-connect"
+		case bd.Role == geo.RoleIC:
+			cls, lcls, role = "bldg ic", "lbl xc", "intermediate cross-connect"
+		}
+		title := bd.ID
+		if bd.Name != "" {
+			title += ": " + bd.Name
+		}
+		if role != "" {
+			title += " (" + role + ")"
+		}
+		m.Buildings = append(m.Buildings, buildingShape{
+			svgPath: svgPath{D: d.String(), Class: cls, Title: title},
+			ID:      bd.ID, LabelX: num(best.X), LabelY: num(best.Y + 4), LabelCls: lcls,
+		})
+	}
+
+	opened := map[string]bool{}
+	for _, id := range r.Opened {
+		opened[id] = true
+	}
+	// Existing pathways first, proposed above them; high EMI as a halo below everything.
+	spans := make([]int, len(net.Spans))
+	for i := range spans {
+		spans[i] = i
+	}
+	rank := func(s *geo.Span) int {
+		switch {
+		case s.Status != geo.StatusProposed:
+			return 0
+		case !opened[s.ID]:
+			return 1
+		}
+		return 2
+	}
+	sort.SliceStable(spans, func(i, j int) bool { return rank(&net.Spans[spans[i]]) < rank(&net.Spans[spans[j]]) })
+	for _, i := range spans {
+		s := &net.Spans[i]
+		d := pathD(p.line(coords(s.Line)))
+		if d == "" {
+			continue
+		}
+		status := s.Status
+		if opened[s.ID] {
+			status = "proposed, opened by this plan"
+		}
+		title := fmt.Sprintf("%s (pathway %s): %s, %s, %s", s.ID, s.PathwayID, s.Type, status, opt.lengthU(s.LengthM))
+		if s.EMI != "" && s.EMI != geo.EMINone {
+			title += ", EMI " + s.EMI
+		}
+		if s.EMI == geo.EMIHigh {
+			m.Halos = append(m.Halos, svgPath{D: d, Class: "emi-high", Title: s.ID + ": high EMI"})
+		}
+		m.Pathways = append(m.Pathways, svgPath{D: d, Class: pathwayClass(s, opened[s.ID]), Title: title})
+	}
+	for _, a := range net.Access {
+		if d := pathD(p.line(coords(a.Lateral))); d != "" {
+			m.Laterals = append(m.Laterals, svgPath{D: d, Class: "lateral",
+				Title: fmt.Sprintf("lateral to %s, %s", a.Building, opt.lengthU(a.LateralM))})
+		}
+	}
+	for i := range r.Legs {
+		l := &r.Legs[i]
+		if !l.Feasible {
+			continue
+		}
+		ls, err := net.RouteLine(geo.RouteFeature{FromBuilding: l.Link.To, ToBuilding: l.Link.From, Steps: l.Steps})
+		if err != nil {
+			return mapView{}, fmt.Errorf("report: map of %s %s: %w", l.Link.ID, l.Name, err)
+		}
+		px := p.line(coords(ls))
+		if l.Name == route.LegDiverse {
+			px = offsetLine(px, diverseOffsetPx)
+		}
+		d := pathD(px)
+		if d == "" {
+			// A leg with no length (both ends at one junction) still gets its path, so that
+			// the map holds one path per feasible leg.
+			if len(px) == 1 {
+				d = "M" + num(px[0].X) + " " + num(px[0].Y) + "l0 0"
+			} else {
+				d = "M0 0"
+			}
+		}
+		mi := med[l.Medium]
+		m.Routes = append(m.Routes, routePath{D: d, Stroke: mi.Hex, Dash: mi.Dash, Leg: l.Link.ID + "/" + l.Name, Medium: l.Medium,
+			Title: fmt.Sprintf("%s %s leg, %s to %s: %s (%s), %s", l.Link.ID, l.Name, l.Link.From, l.Link.To, mi.Label, mi.ColourLabel, opt.lengthU(l.RouteM))})
+	}
+	for _, s := range c.Structures {
+		q := p.at(s.Point[0], s.Point[1])
+		m.Structures = append(m.Structures, mark{X: num(q.X), Y: num(q.Y), Shape: structureShape(s.Type), Class: "st",
+			Title: s.ID + ": " + s.Type})
+	}
+	m.Scale = newScaleBar(p, opt)
+	m.NorthX, m.NorthY = num(p.widthPx-mapMarginPx+4), num(mapMarginPx+4)
+	return m, nil
+}
+
+// newScaleBar draws a bar of a round length near a fifth of the map's width, in four
+// alternating segments, at the bottom left.
+func newScaleBar(p *projection, opt Options) scaleBar {
+	unitM := 1.0
+	if opt.imperial() {
+		unitM = 1 / route.FtPerM
+	}
+	targetPx := p.widthPx / 5
+	length := niceLength(targetPx / p.pxPerM / unitM) // in display units
+	w := length * unitM * p.pxPerM
+	x0, y0 := mapMarginPx, p.heightPx-mapMarginPx/2-6
+	sb := scaleBar{X: num(x0), Y: num(y0), TotalW: num(w), BarHeight: "6",
+		ZeroX: num(x0), EndX: num(x0 + w), TextY: num(y0 - 4),
+		Label: group(fmt.Sprintf("%g", length)) + " " + opt.lengthUnit()}
+	for k := 0; k < 4; k++ {
+		cls := "sb-dark"
+		if k%2 == 1 {
+			cls = "sb-light"
+		}
+		sb.Segs = append(sb.Segs, scaleSeg{X: num(x0 + float64(k)*w/4), W: num(w / 4), Class: cls})
+	}
+	return sb
+}

@@ -1,0 +1,770 @@
+package report
+
+import (
+	"bytes"
+	"fmt"
+	"html/template"
+	"math"
+	"sort"
+	"strconv"
+	"strings"
+
+	"spanwright/media"
+	"spanwright/media/install"
+	"spanwright/route"
+)
+
+// FileName is the plan report's file name in a plan's output folder.
+const FileName = "report.html"
+
+// mediumInfo is how a medium is drawn and named.
+type mediumInfo struct {
+	ID          string
+	Label       string // "os2, OS2 single-mode"
+	Hex         string
+	ColourLabel string // the TIA-598 colour name, or why there is none
+	Dash        string // stroke-dasharray by kind, so media differ in grey print too
+	DashName    string
+	Kind        string
+}
+
+// Dash patterns of route lines by medium kind.
+var kindDash = map[string][2]string{
+	media.KindSinglemode: {"", "solid line"},
+	media.KindMultimode:  {"10 4", "long dashes"},
+	media.KindCopper:     {"3 3", "short dashes"},
+}
+
+func mediumOf(cat *media.Catalog, id string) mediumInfo {
+	mi := mediumInfo{ID: id, Label: id, Hex: unknownHex, ColourLabel: "unknown medium"}
+	m := cat.Medium(id)
+	if m == nil {
+		return mi
+	}
+	if m.Name != "" {
+		mi.Label = id + ", " + m.Name
+	}
+	mi.Kind = m.Kind
+	mi.Hex, mi.ColourLabel = colourOf(m.JacketColour)
+	if d, ok := kindDash[m.Kind]; ok {
+		mi.Dash, mi.DashName = d[0], d[1]
+	}
+	return mi
+}
+
+type lossCell struct {
+	Text      string
+	Operating bool
+}
+
+type marginBar struct {
+	LossW, MarginW string // widths in px of the loss and margin parts of a 100 px bar
+	Class          string
+}
+
+type legRow struct {
+	Link, Leg         string
+	From, To          string
+	FromName, ToName  string
+	Rate              string
+	Feasible          bool
+	Medium            mediumInfo
+	HasMedium         bool
+	Application       string
+	Construction      string
+	Strands           string
+	Route, Lat, Riser string
+	Losses            []lossCell
+	Limit, Margin     string
+	Bar               *marginBar
+	Cost              string
+	Reason            string
+	Rejected          []string
+	Pathways          string
+}
+
+type bar struct {
+	Label  string
+	Value  string
+	W      string // px
+	Y      string
+	TextY  string
+	ValueX string
+	Class  string
+}
+
+type mediumRow struct {
+	Info  mediumInfo
+	Legs  int
+	Route string
+	Cost  string
+}
+
+type fillRow struct {
+	Span, Pathway string
+	Cables        int
+	Ducts         string
+	Used, Allowed string
+	Pct           string
+	BarW          string
+	Over          bool
+}
+
+type ductRow struct {
+	Span, Pathway string
+	Duct          string
+	DuctID        string
+	Cables        string
+	Fill, Allowed string
+	BarW, LimitX  string
+	Jam           string
+	JamRisk       bool
+	Over          bool
+	Bad           bool
+}
+
+type pullRow struct {
+	Link, Leg string
+	Seq       int
+	From, To  string
+	Spans     string
+	Length    string
+	Bends     string
+	Feed      string
+	Tension   string
+	Other     string
+	Rated     string
+	BarW      string
+	SWBP      string
+	Added     string
+	Over      bool
+	Reason    string
+}
+
+type driverRow struct {
+	Category, Item string
+	Cost           string
+	Pct            string
+}
+
+type buildingRow struct {
+	ID, Name, Role string
+}
+
+type planView struct {
+	Title      string
+	CSS        template.CSS
+	Unit       string
+	Currency   string
+	S          route.Summary
+	Hub        string
+	HubName    string
+	Feasible   int
+	TotalRoute string
+	NewTrench  string
+	Opened     int
+	Worst      string
+	Total      string
+	Budget     string
+	Over       string
+	OverPct    string
+	IsOver     bool
+	HasBudget  bool
+	BudgetBar  struct{ TotalW, BudgetX, Class, LabelX, Anchor string }
+	Costs      []bar
+	CostsH     string
+	Media      []mediumRow
+	Map        mapView
+	Legend     legend
+	Legs       []legRow
+	Infeasible int
+	Wavelength []int
+	ReasonSpan int // columns of the links table the reason row spans
+	DesignDB   string
+	Fill       []fillRow
+	FillOver   int
+	FillOpen   int
+	Ducts      []ductRow
+	DuctsOver  int
+	HasEst     bool
+	Pulls      []pullRow
+	PullsOver  int
+	PullPoints int
+	Force      string
+	Drivers    []driverRow
+	BOMLabel   string
+	Subtotal   string
+	ModelCost  string
+	Warnings   []string
+	Buildings  []buildingRow
+}
+
+type legendItem struct {
+	Class, Stroke, Dash, Label string
+	Shape                      string
+}
+
+type legend struct {
+	Pathways   []legendItem
+	Media      []legendItem
+	Structures []legendItem
+}
+
+// Plan renders the report of a planned scenario as one self-contained HTML page. It fails
+// only when a leg's steps do not match the network (a programmer's error upstream).
+func Plan(r *route.Result, opt Options) ([]byte, error) {
+	v, err := planViewOf(r, opt)
+	if err != nil {
+		return nil, err
+	}
+	var b bytes.Buffer
+	if err := templates().ExecuteTemplate(&b, "plan", v); err != nil {
+		return nil, fmt.Errorf("report: %w", err)
+	}
+	return b.Bytes(), nil
+}
+
+// File renders the plan report as an output file named FileName.
+func File(r *route.Result, opt Options) (route.OutputFile, error) {
+	data, err := Plan(r, opt)
+	if err != nil {
+		return route.OutputFile{}, err
+	}
+	return route.OutputFile{Name: FileName, Data: data}, nil
+}
+
+// Extra returns a hook for route/sweep's Options.Extra that adds the plan report to each
+// scenario's folder.
+func Extra(opt Options) func(*route.Result) ([]route.OutputFile, error) {
+	return func(r *route.Result) ([]route.OutputFile, error) {
+		f, err := File(r, opt)
+		if err != nil {
+			return nil, err
+		}
+		return []route.OutputFile{f}, nil
+	}
+}
+
+func planViewOf(r *route.Result, opt Options) (*planView, error) {
+	cat := r.Engine.Catalog()
+	s := r.Summarize()
+	v := &planView{S: s, Unit: opt.lengthUnit(), Currency: r.Currency, Hub: r.Hub}
+	v.Title = "Backbone plan: " + s.Scenario
+	if s.Scenario == "" {
+		v.Title = "Backbone plan"
+	}
+	v.CSS = template.CSS(styleCSS)
+	names := map[string]string{}
+	for _, b := range r.Site.Campus.Buildings {
+		names[b.ID] = b.Name
+		role := "served"
+		switch {
+		case b.ID == r.Hub:
+			role = "hub (main cross-connect)"
+		case b.Role == "ic":
+			role = "intermediate cross-connect"
+		case b.Role == "mc":
+			role = "main cross-connect (not the plan's hub)"
+		}
+		v.Buildings = append(v.Buildings, buildingRow{ID: b.ID, Name: b.Name, Role: role})
+	}
+	sort.Slice(v.Buildings, func(i, j int) bool { return v.Buildings[i].ID < v.Buildings[j].ID })
+	v.HubName = names[r.Hub]
+	v.Feasible = s.Legs - s.Infeasible
+	v.TotalRoute = opt.lengthU(s.TotalRouteM)
+	v.NewTrench = opt.lengthU(r.NewTrenchM)
+	v.Opened = len(r.Opened)
+	if s.WorstMarginDB != nil {
+		v.Worst = dB(*s.WorstMarginDB) + " dB"
+	}
+	v.Total = money(s.TotalCents)
+	v.HasBudget = s.BudgetCents > 0
+	if v.HasBudget {
+		v.Budget = money(s.BudgetCents)
+		over := s.OverBudgetCents
+		v.IsOver = over > 0
+		if over < 0 {
+			over = -over
+		}
+		v.Over = money(over)
+		v.OverPct = strconv.FormatFloat(abs(s.OverBudgetPct), 'f', 1, 64) + " %"
+		top := max(s.TotalCents, s.BudgetCents)
+		const full = 560.0
+		v.BudgetBar.TotalW = num(full * float64(s.TotalCents) / float64(top))
+		v.BudgetBar.BudgetX = num(full * float64(s.BudgetCents) / float64(top))
+		v.BudgetBar.LabelX, v.BudgetBar.Anchor = num(full*float64(s.TotalCents)/float64(top)+6), "start"
+		if float64(s.TotalCents)/float64(top) > 0.7 {
+			v.BudgetBar.LabelX, v.BudgetBar.Anchor = num(full*float64(s.TotalCents)/float64(top)-6), "end"
+		}
+		v.BudgetBar.Class = "under"
+		if v.IsOver {
+			v.BudgetBar.Class = "over"
+		}
+	}
+	v.DesignDB = dB(r.Plan.Design.LossMarginDB)
+
+	// Media in catalog order, then any the catalog does not know, by id.
+	used := map[string]bool{}
+	for _, l := range r.Legs {
+		if l.Feasible && l.Medium != "" {
+			used[l.Medium] = true
+		}
+	}
+	med := map[string]mediumInfo{}
+	var order []string
+	for _, m := range cat.Media {
+		if used[m.ID] {
+			order = append(order, m.ID)
+		}
+	}
+	var extra []string
+	for id := range used {
+		if cat.Medium(id) == nil {
+			extra = append(extra, id)
+		}
+	}
+	sort.Strings(extra)
+	order = append(order, extra...)
+	for _, id := range order {
+		med[id] = mediumOf(cat, id)
+	}
+
+	v.Costs, v.CostsH = costBars(r)
+	v.Media = mediaRows(r, opt, med, order)
+	v.Wavelength = wavelengths(r)
+	v.ReasonSpan = 11 + len(v.Wavelength)
+	v.Legs, v.Infeasible = legRows(r, opt, med, names, v.Wavelength)
+	v.Fill, v.FillOver, v.FillOpen = fillRows(r)
+	v.ModelCost = money(s.ModelCents)
+	if e := r.Estimate; e != nil && e.BOM != nil {
+		v.HasEst = true
+		v.BOMLabel = e.BOM.Label
+		v.Subtotal = money(e.BOM.SubtotalCents)
+		v.Ducts, v.DuctsOver = ductRows(e.Fill)
+		v.Pulls, v.PullsOver = pullRows(r, opt)
+		v.PullPoints = e.AddedPullPoints
+		for _, d := range s.CostDrivers {
+			v.Drivers = append(v.Drivers, driverRow{Category: d.Category, Item: d.Item, Cost: money(d.Cents),
+				Pct: strconv.FormatFloat(d.Pct, 'f', 1, 64) + " %"})
+		}
+	}
+	v.Force = "N"
+	if opt.imperial() {
+		v.Force = "lbf"
+	}
+	v.Warnings = append([]string(nil), r.Warnings...)
+	m, err := buildMap(r, opt, med)
+	if err != nil {
+		return nil, err
+	}
+	v.Map = m
+	v.Legend = legendOf(r, med, order)
+	return v, nil
+}
+
+func abs(x float64) float64 {
+	if x < 0 {
+		return -x
+	}
+	return x
+}
+
+// costBars is the cost-by-category chart: the legs' cable, labour, construction and optics,
+// and plan-level cost not carried by a leg.
+func costBars(r *route.Result) ([]bar, string) {
+	type cat struct {
+		label string
+		cents int64
+		cls   string
+	}
+	var cats []cat
+	if e := r.Estimate; e != nil && e.BOM != nil {
+		names := map[string][2]string{
+			media.CategoryMaterial:     {"material (cable, connectivity)", "c-cable"},
+			media.CategoryLabour:       {"labour", "c-labour"},
+			media.CategoryConstruction: {"construction (trench, duct, structures)", "c-constr"},
+			media.CategoryOptics:       {"optics (transceivers)", "c-optics"},
+		}
+		for _, st := range e.BOM.Subtotal {
+			n, ok := names[st.Category]
+			if !ok {
+				n = [2]string{st.Category, "c-extra"}
+			}
+			cats = append(cats, cat{n[0], st.Cents, n[1]})
+		}
+		cats = append(cats, cat{"contingency", e.BOM.ContingencyCents, "c-extra"},
+			cat{"overhead", e.BOM.OverheadCents, "c-extra"}, cat{"tax", e.BOM.TaxCents, "c-extra"})
+	} else {
+		// Without a bill of materials: the cost model's breakdown of the legs.
+		var cable, labour, constr, optics int64
+		for _, l := range r.Legs {
+			cable += l.Cost.CableCents
+			labour += l.Cost.LabourCents
+			constr += l.Cost.ConstructionCents
+			optics += l.Cost.OpticsCents
+		}
+		cats = []cat{
+			{"cable", cable, "c-cable"},
+			{"labour", labour, "c-labour"},
+			{"construction (trench, added duct)", constr, "c-constr"},
+			{"optics and terminations", optics, "c-optics"},
+		}
+		if r.ExtraCents != 0 {
+			cats = append(cats, cat{"plan level (markups, other)", r.ExtraCents, "c-extra"})
+		}
+	}
+	var top int64 = 1
+	for _, c := range cats {
+		top = max(top, c.cents)
+	}
+	const full = 420.0
+	const rowH = 26.0
+	out := make([]bar, len(cats))
+	for i, c := range cats {
+		w := 0.0
+		if c.cents > 0 {
+			w = full * float64(c.cents) / float64(top)
+		}
+		y := float64(i) * rowH
+		out[i] = bar{Label: c.label, Value: money(c.cents) + " " + r.Currency, W: num(w), Y: num(y + 4),
+			TextY: num(y + 17), ValueX: num(230 + w + 6), Class: c.cls}
+	}
+	return out, num(float64(len(cats))*rowH + 4)
+}
+
+func mediaRows(r *route.Result, opt Options, med map[string]mediumInfo, order []string) []mediumRow {
+	legs := map[string]int{}
+	metres := map[string]float64{}
+	cost := map[string]int64{}
+	for _, l := range r.Legs {
+		if !l.Feasible {
+			continue
+		}
+		legs[l.Medium]++
+		metres[l.Medium] += l.RouteM
+		cost[l.Medium] += l.Cost.TotalCents()
+	}
+	out := make([]mediumRow, 0, len(order))
+	for _, id := range order {
+		out = append(out, mediumRow{Info: med[id], Legs: legs[id], Route: opt.length(metres[id]), Cost: money(cost[id])})
+	}
+	return out
+}
+
+// wavelengths lists the loss columns: route.Wavelengths at which some leg has a loss.
+func wavelengths(r *route.Result) []int {
+	have := map[int]bool{}
+	for _, l := range r.Legs {
+		for _, x := range l.Losses {
+			have[x.WavelengthNM] = true
+		}
+	}
+	var out []int
+	for _, nm := range route.Wavelengths {
+		if have[nm] {
+			out = append(out, nm)
+		}
+	}
+	return out
+}
+
+func legRows(r *route.Result, opt Options, med map[string]mediumInfo, names map[string]string, nms []int) ([]legRow, int) {
+	var bad, good []legRow
+	for i := range r.Legs {
+		l := &r.Legs[i]
+		row := legRow{Link: l.Link.ID, Leg: l.Name, From: l.Link.From, To: l.Link.To,
+			FromName: names[l.Link.From], ToName: names[l.Link.To], Rate: l.Link.Rate, Feasible: l.Feasible,
+			Application: l.Application, Construction: l.Construction, Strands: strconv.Itoa(l.StrandsCable),
+			Route: opt.length(l.RouteM), Lat: opt.length(l.LateralM), Riser: opt.length(l.RiserM),
+			Cost: money(l.Cost.TotalCents())}
+		if l.Link.FutureRate != "" {
+			row.Rate += " → " + l.Link.FutureRate
+		}
+		for j, p := range l.Pathways {
+			if j > 0 {
+				row.Pathways += " "
+			}
+			row.Pathways += p
+		}
+		if l.Feasible {
+			row.Reason = l.Choice
+			for _, rj := range l.Rejected {
+				row.Rejected = append(row.Rejected, rj.Reason)
+			}
+		} else {
+			row.Reason = l.Reason
+		}
+		if l.Medium != "" {
+			row.Medium, row.HasMedium = med[l.Medium], true
+		}
+		for _, nm := range nms {
+			c := lossCell{}
+			for _, x := range l.Losses {
+				if x.WavelengthNM == nm {
+					c = lossCell{Text: dB(x.LossDB), Operating: x.Operating}
+				}
+			}
+			row.Losses = append(row.Losses, c)
+		}
+		var worst *media.Loss
+		for k := range l.Losses {
+			x := &l.Losses[k]
+			if x.Operating && (worst == nil || x.MarginDB < worst.MarginDB) {
+				worst = x
+			}
+		}
+		if worst != nil && worst.LimitDB > 0 {
+			row.Limit, row.Margin = dB(worst.LimitDB), dB(worst.MarginDB)
+			lossW := 100 * worst.LossDB / worst.LimitDB
+			if lossW > 100 {
+				lossW = 100
+			}
+			if lossW < 0 {
+				lossW = 0
+			}
+			b := &marginBar{LossW: num(lossW), MarginW: num(100 - lossW), Class: "ok"}
+			switch {
+			case worst.MarginDB < 0:
+				b.Class = "bad"
+			case worst.MarginDB < r.Plan.Design.LossMarginDB:
+				b.Class = "thin"
+			}
+			row.Bar = b
+		}
+		if l.Feasible {
+			good = append(good, row)
+		} else {
+			bad = append(bad, row)
+		}
+	}
+	sort.SliceStable(bad, func(i, j int) bool {
+		if bad[i].Link != bad[j].Link {
+			return bad[i].Link < bad[j].Link
+		}
+		return bad[i].Leg > bad[j].Leg // primary before diverse
+	})
+	return append(bad, good...), len(bad)
+}
+
+// fillRows lists the spans whose ducts limit the fill, those over the NFPA 70 Chapter 9
+// Table 1 area first, then by fill, then by span id; it also counts the spans with no fill
+// limit (tunnel, tray, aerial, buried, proposed trench).
+func fillRows(r *route.Result) ([]fillRow, int, int) {
+	type f struct {
+		route.SegmentFill
+		ratio float64
+	}
+	var list []f
+	open := 0
+	for _, x := range r.Fill {
+		if !x.Limited {
+			open++
+			continue
+		}
+		ratio := 0.0
+		if x.AllowedAreaMM2 > 0 {
+			ratio = x.UsedAreaMM2 / x.AllowedAreaMM2
+		} else if x.UsedAreaMM2 > 0 {
+			ratio = 2
+		}
+		list = append(list, f{x, ratio})
+	}
+	over := func(x f) bool { return x.UsedAreaMM2 > x.AllowedAreaMM2+1e-9 }
+	sort.SliceStable(list, func(i, j int) bool {
+		a, b := list[i], list[j]
+		if over(a) != over(b) {
+			return over(a)
+		}
+		if a.ratio != b.ratio {
+			return a.ratio > b.ratio
+		}
+		return a.Span < b.Span
+	})
+	out := make([]fillRow, len(list))
+	n := 0
+	for i, x := range list {
+		ducts := strconv.Itoa(x.Ducts)
+		if x.AddedDucts > 0 {
+			ducts += " + " + strconv.Itoa(x.AddedDucts) + " added"
+		}
+		w := x.ratio * 100
+		if w > 100 {
+			w = 100
+		}
+		out[i] = fillRow{Span: x.Span, Pathway: x.PathwayID, Cables: x.Cables, Ducts: ducts,
+			Used: strconv.FormatFloat(x.UsedAreaMM2, 'f', 0, 64), Allowed: strconv.FormatFloat(x.AllowedAreaMM2, 'f', 0, 64),
+			Pct: pct(x.ratio), BarW: num(w), Over: over(x)}
+		if out[i].Over {
+			n++
+		}
+	}
+	return out, n, open
+}
+
+// legendOf lists what the map shows: the pathway types and statuses present, the media of
+// the feasible legs, the structure types present.
+func legendOf(r *route.Result, med map[string]mediumInfo, order []string) legend {
+	var lg legend
+	net := r.Site.Net
+	opened := map[string]bool{}
+	for _, id := range r.Opened {
+		opened[id] = true
+	}
+	have := map[string]bool{}
+	emi := false
+	for i := range net.Spans {
+		s := &net.Spans[i]
+		have[pathwayClass(s, opened[s.ID])] = true
+		if s.EMI == "high" {
+			emi = true
+		}
+	}
+	for _, it := range []legendItem{
+		{Class: "pw-duct", Label: "existing duct"},
+		{Class: "pw-tunnel", Label: "existing utility tunnel"},
+		{Class: "pw-aerial", Label: "existing aerial (pole line)"},
+		{Class: "pw-buried", Label: "existing direct-buried"},
+		{Class: "pw-tray", Label: "existing cable tray"},
+		{Class: "pw-other", Label: "other pathway"},
+		{Class: "pw-proposed", Label: "proposed trench, not used (dashed)"},
+		{Class: "pw-new", Label: "new trench opened by this plan (dashed)"},
+	} {
+		if have[it.Class] {
+			lg.Pathways = append(lg.Pathways, it)
+		}
+	}
+	if len(net.Access) > 0 {
+		for _, a := range net.Access {
+			if len(a.Lateral) >= 2 {
+				lg.Pathways = append(lg.Pathways, legendItem{Class: "lateral", Label: "lateral to a building (dotted)"})
+				break
+			}
+		}
+	}
+	if emi {
+		lg.Pathways = append(lg.Pathways, legendItem{Class: "emi-high", Label: "high EMI (halo)"})
+	}
+	for _, id := range order {
+		mi := med[id]
+		label := mi.Label + ": " + mi.ColourLabel
+		if mi.DashName != "" {
+			label += ", " + mi.DashName
+		}
+		lg.Media = append(lg.Media, legendItem{Stroke: mi.Hex, Dash: mi.Dash, Label: label})
+	}
+	types := map[string]bool{}
+	for _, s := range r.Site.Campus.Structures {
+		types[s.Type] = true
+	}
+	var ts []string
+	for t := range types {
+		ts = append(ts, t)
+	}
+	sort.Strings(ts)
+	for _, t := range ts {
+		lg.Structures = append(lg.Structures, legendItem{Shape: structureShape(t), Label: t})
+	}
+	return lg
+}
+
+// ductRows lists the fill of every duct that holds cable on a span of limited capacity:
+// ducts over the NFPA 70 Chapter 9 Table 1 fill or at risk of a jam first, then by fill
+// relative to its limit, then by span and duct.
+func ductRows(fs []route.DuctFill) ([]ductRow, int) {
+	list := append([]route.DuctFill(nil), fs...)
+	ratio := func(f route.DuctFill) float64 {
+		if f.AllowedPct <= 0 {
+			return 0
+		}
+		return f.FillPct / f.AllowedPct
+	}
+	sort.SliceStable(list, func(i, j int) bool {
+		a, b := list[i], list[j]
+		if a.OK != b.OK {
+			return !a.OK
+		}
+		if ratio(a) != ratio(b) {
+			return ratio(a) > ratio(b)
+		}
+		if a.Span != b.Span {
+			return a.Span < b.Span
+		}
+		return a.Duct < b.Duct
+	})
+	out := make([]ductRow, len(list))
+	bad := 0
+	for i, f := range list {
+		duct := strconv.Itoa(f.Duct)
+		if f.Added {
+			duct += " (added)"
+		}
+		ods := make([]string, len(f.CablesODMM))
+		for k, od := range f.CablesODMM {
+			ods[k] = strconv.FormatFloat(od, 'f', 1, 64)
+		}
+		cables := strconv.Itoa(len(f.CablesODMM))
+		if len(ods) > 0 {
+			cables += " (OD " + strings.Join(ods, ", ") + " mm)"
+		}
+		// The bar spans 0 to 100 % of the duct's area; the mark is the allowed fill.
+		w := math.Min(f.FillPct, 100)
+		row := ductRow{Span: f.Span, Pathway: f.PathwayID, Duct: duct, DuctID: strconv.FormatFloat(f.DuctIDMM, 'f', 0, 64),
+			Cables: cables, Fill: strconv.FormatFloat(f.FillPct, 'f', 1, 64) + " %", Allowed: strconv.FormatFloat(f.AllowedPct, 'f', 0, 64) + " %",
+			BarW: num(w), LimitX: num(math.Min(f.AllowedPct, 100)), Over: f.FillPct > f.AllowedPct, JamRisk: f.JamRisk, Bad: !f.OK}
+		if f.JamRatio > 0 {
+			row.Jam = strconv.FormatFloat(f.JamRatio, 'f', 2, 64)
+		}
+		if row.Bad {
+			bad++
+		}
+		out[i] = row
+	}
+	return out, bad
+}
+
+// pullRows lists every pull section: those over the cable's rated tension first, then by
+// tension relative to the rating, then in leg order.
+func pullRows(r *route.Result, opt Options) ([]pullRow, int) {
+	ps := append([]route.PullSection(nil), r.Estimate.Pulls...)
+	ratio := func(p route.PullSection) float64 {
+		if p.RatedN <= 0 {
+			return 0
+		}
+		return p.TensionN / p.RatedN
+	}
+	sort.SliceStable(ps, func(i, j int) bool {
+		a, b := ps[i], ps[j]
+		if a.WithinRating != b.WithinRating {
+			return !a.WithinRating
+		}
+		return ratio(a) > ratio(b)
+	})
+	force := func(n float64) string {
+		if opt.imperial() {
+			n = install.NToLbf(n)
+		}
+		return group(strconv.FormatFloat(n, 'f', 1, 64))
+	}
+	out := make([]pullRow, len(ps))
+	over := 0
+	for i, p := range ps {
+		l := &r.Legs[p.Leg]
+		var added []string
+		if p.AddedFrom {
+			added = append(added, "start")
+		}
+		if p.AddedTo {
+			added = append(added, "end")
+		}
+		row := pullRow{Link: l.Link.ID, Leg: l.Name, Seq: p.Seq, From: p.From, To: p.To, Spans: strings.Join(p.Spans, " "),
+			Length: opt.length(p.LengthM), Bends: strconv.FormatFloat(p.BendDeg, 'f', 0, 64) + "°", Feed: p.FeedAt,
+			Tension: force(p.TensionN), Other: force(p.OtherN), Rated: force(p.RatedN),
+			BarW: num(math.Min(100*ratio(p), 100)), SWBP: group(strconv.FormatFloat(p.SWBPNPerM, 'f', 0, 64)),
+			Added: strings.Join(added, ", "), Over: !p.WithinRating, Reason: p.Reason}
+		if row.Over {
+			over++
+		}
+		out[i] = row
+	}
+	return out, over
+}

@@ -1,0 +1,335 @@
+package report
+
+import (
+	"bytes"
+	"fmt"
+	"html/template"
+	"math"
+	"sort"
+	"strconv"
+
+	"spanwright/route"
+	"spanwright/route/sweep"
+)
+
+// SweepFileName is the sweep report's file name in a sweep's output folder, beside compare.csv.
+const SweepFileName = "compare.html"
+
+// SweepOptions say how a sweep report is rendered.
+type SweepOptions struct {
+	Title string // e.g. the sweep file's name; "" gives a generic title
+}
+
+type sweepCell struct {
+	Text string
+	Sort string // the value the table sorts by: a number for numeric columns, "" for blank
+	Link string // a relative link (the scenario's report), or ""
+}
+
+type sweepCol struct {
+	Name string
+	Num  bool
+}
+
+type sweepRow struct {
+	Class string
+	Cells []sweepCell
+}
+
+type plotPoint struct {
+	X, Y   string
+	Class  string
+	Label  string // the scenario index for Pareto points, else ""
+	LX, LY string
+	Title  string
+}
+
+type tick struct {
+	Pos, Text string
+}
+
+type scatter struct {
+	W, H                   string
+	Left, Right, Top, Bot  string
+	Points                 []plotPoint
+	XTicks, YTicks         []tick
+	XLabel, YLabel         string
+	NoFibreY               string // y of the "no fibre leg" band, "" when unused
+	Empty                  bool
+	LabelX, LabelY, AxisMY string
+}
+
+type sweepView struct {
+	Title      string
+	CSS        template.CSS
+	Scenarios  int
+	OK         int
+	Infeasible int
+	Failed     int
+	Pareto     int
+	Currency   string
+	Cols       []sweepCol
+	Rows       []sweepRow
+	Plot       scatter
+	Cheapest   string
+}
+
+// Sweep renders a sweep's comparison as one self-contained HTML page: the table of every
+// scenario (its overrides, status, cost, budget, margin, trench, diverse routes, media,
+// rank, Pareto flag), sortable by clicking a column head, and a cost-versus-margin scatter
+// plot with the Pareto-optimal scenarios marked.
+func Sweep(c *sweep.Comparison, opt SweepOptions) ([]byte, error) {
+	v := sweepViewOf(c, opt)
+	var b bytes.Buffer
+	if err := templates().ExecuteTemplate(&b, "sweep", v); err != nil {
+		return nil, fmt.Errorf("report: %w", err)
+	}
+	return b.Bytes(), nil
+}
+
+// SweepFiles renders the sweep report as the output file SweepFileName; it suits
+// sweep.CompareExtra.
+func SweepFiles(opt SweepOptions) sweep.CompareFunc {
+	return func(c *sweep.Comparison) ([]route.OutputFile, error) {
+		data, err := Sweep(c, opt)
+		if err != nil {
+			return nil, err
+		}
+		return []route.OutputFile{{Name: SweepFileName, Data: data}}, nil
+	}
+}
+
+func sweepViewOf(c *sweep.Comparison, opt SweepOptions) *sweepView {
+	v := &sweepView{Title: "Sweep comparison", CSS: template.CSS(styleCSS), Scenarios: len(c.Rows), Currency: c.Currency}
+	if opt.Title != "" {
+		v.Title += ": " + opt.Title
+	}
+	cur := c.Currency
+	if cur == "" {
+		cur = "currency units"
+	}
+	v.Cols = append(v.Cols, sweepCol{"#", true}, sweepCol{"scenario", false}, sweepCol{"case", false})
+	for _, k := range c.Keys {
+		v.Cols = append(v.Cols, sweepCol{k, false})
+	}
+	v.Cols = append(v.Cols,
+		sweepCol{"status", false}, sweepCol{"total cost (" + cur + ")", true}, sweepCol{"budget", true},
+		sweepCol{"over budget", true}, sweepCol{"infeasible legs", true}, sweepCol{"worst margin (dB)", true},
+		sweepCol{"new trench (m)", true}, sweepCol{"diverse links", true}, sweepCol{"lacking diverse", true},
+		sweepCol{"media (legs)", false}, sweepCol{"rank by cost", true}, sweepCol{"Pareto", false},
+		sweepCol{"warnings", true}, sweepCol{"error", false})
+	var cheapest *sweep.Judged
+	for i := range c.Rows {
+		j := &c.Rows[i]
+		switch j.Status {
+		case sweep.StatusOK:
+			v.OK++
+			if j.Rank == 1 && cheapest == nil {
+				cheapest = j
+			}
+		case sweep.StatusInfeasible:
+			v.Infeasible++
+		default:
+			v.Failed++
+		}
+		if j.Pareto {
+			v.Pareto++
+		}
+		v.Rows = append(v.Rows, sweepRowOf(j, c.Keys))
+	}
+	if cheapest != nil {
+		v.Cheapest = fmt.Sprintf("#%d %s at %s %s", cheapest.Index, cheapest.ID, money(cheapest.TotalCents), c.Currency)
+	}
+	v.Plot = scatterOf(c)
+	return v
+}
+
+func sweepRowOf(j *sweep.Judged, keys []string) sweepRow {
+	planned := j.Status != sweep.StatusFailed
+	text := func(s string) sweepCell { return sweepCell{Text: s, Sort: s} }
+	intc := func(n int, ok bool) sweepCell {
+		if !ok {
+			return sweepCell{}
+		}
+		s := strconv.Itoa(n)
+		return sweepCell{Text: s, Sort: s}
+	}
+	moneyc := func(c int64, ok bool) sweepCell {
+		if !ok {
+			return sweepCell{}
+		}
+		return sweepCell{Text: money(c), Sort: strconv.FormatInt(c, 10)}
+	}
+	row := sweepRow{Class: j.Status}
+	if j.Pareto {
+		row.Class += " pareto"
+	}
+	id := sweepCell{Text: j.ID, Sort: j.ID}
+	if planned {
+		id.Link = j.ID + "/" + FileName
+	}
+	row.Cells = append(row.Cells, intc(j.Index, true), id, text(j.Case))
+	for _, k := range keys {
+		val := ""
+		for _, kv := range j.Set {
+			if kv[0] == k {
+				val = kv[1]
+			}
+		}
+		row.Cells = append(row.Cells, text(val))
+	}
+	hasBudget := planned && j.BudgetCents > 0
+	margin := sweepCell{}
+	if planned && j.WorstMarginDB != nil {
+		margin = sweepCell{Text: dB(*j.WorstMarginDB), Sort: strconv.FormatFloat(*j.WorstMarginDB, 'f', 2, 64)}
+	}
+	trench := sweepCell{}
+	if planned {
+		s := strconv.FormatFloat(j.NewTrenchM, 'f', 1, 64)
+		trench = sweepCell{Text: group(s), Sort: s}
+	}
+	pareto := sweepCell{}
+	if j.Status == sweep.StatusOK {
+		pareto = text("no")
+		if j.Pareto {
+			pareto = text("yes")
+		}
+	}
+	row.Cells = append(row.Cells, text(j.Status), moneyc(j.TotalCents, planned), moneyc(j.BudgetCents, hasBudget),
+		moneyc(j.OverBudgetCents, hasBudget), intc(j.InfeasibleLegs, planned), margin, trench,
+		intc(j.DiverseLinks, planned), intc(j.DiverseMissing, planned), text(j.MediaMix),
+		intc(j.Rank, j.Rank > 0), pareto, intc(j.Warnings, planned), text(j.Error))
+	return row
+}
+
+// Scatter plot geometry, in SVG pixels.
+const (
+	plotW      = 900.0
+	plotH      = 460.0
+	plotLeft   = 78.0
+	plotRight  = 24.0
+	plotTop    = 34.0
+	plotBottom = 56.0
+)
+
+// scatterOf plots every planned scenario's total cost (x) against its worst loss margin (y).
+// Scenarios without fibre legs have no margin and sit on a band above the axis; infeasible
+// scenarios are drawn hollow (their cost leaves out the links they could not serve).
+func scatterOf(c *sweep.Comparison) scatter {
+	s := scatter{W: num(plotW), H: num(plotH), Left: num(plotLeft), Right: num(plotW - plotRight),
+		Top: num(plotTop), Bot: num(plotH - plotBottom)}
+	cur := c.Currency
+	if cur == "" {
+		cur = "currency units"
+	}
+	s.XLabel = "total cost (" + cur + ")"
+	s.YLabel = "worst loss margin (dB)"
+	var xs, ys []float64
+	noFibre := false
+	for _, j := range c.Rows {
+		if j.Status == sweep.StatusFailed {
+			continue
+		}
+		xs = append(xs, float64(j.TotalCents)/100)
+		if j.WorstMarginDB != nil {
+			ys = append(ys, *j.WorstMarginDB)
+		} else {
+			noFibre = true
+		}
+	}
+	if len(xs) == 0 {
+		s.Empty = true
+		return s
+	}
+	x0, x1, xt := axis(xs)
+	y0, y1, yt := 0.0, 1.0, []float64{0, 0.5, 1}
+	if len(ys) > 0 {
+		y0, y1, yt = axis(ys)
+	}
+	top := plotTop
+	if noFibre {
+		top += 24
+		s.NoFibreY = num(plotTop + 8)
+	}
+	px := func(x float64) float64 { return plotLeft + (x-x0)/(x1-x0)*(plotW-plotLeft-plotRight) }
+	py := func(y float64) float64 { return plotH - plotBottom - (y-y0)/(y1-y0)*(plotH-plotBottom-top) }
+	for _, t := range xt {
+		s.XTicks = append(s.XTicks, tick{Pos: num(px(t)), Text: moneyShort(int64(math.Round(t * 100)))})
+	}
+	for _, t := range yt {
+		s.YTicks = append(s.YTicks, tick{Pos: num(py(t)), Text: strconv.FormatFloat(t, 'f', decimals(yt), 64)})
+	}
+	s.LabelX, s.LabelY, s.AxisMY = num((plotLeft+plotW-plotRight)/2), num(plotH-12), num((top+plotH-plotBottom)/2)
+	// Pareto points last, so they are drawn on top; then by index.
+	order := make([]int, 0, len(c.Rows))
+	for i, j := range c.Rows {
+		if j.Status != sweep.StatusFailed {
+			order = append(order, i)
+		}
+	}
+	sort.SliceStable(order, func(a, b int) bool { return !c.Rows[order[a]].Pareto && c.Rows[order[b]].Pareto })
+	for _, i := range order {
+		j := c.Rows[i]
+		x := px(float64(j.TotalCents) / 100)
+		y := plotTop + 8
+		margin := "no fibre leg"
+		if j.WorstMarginDB != nil {
+			y = py(*j.WorstMarginDB)
+			margin = dB(*j.WorstMarginDB) + " dB"
+		}
+		p := plotPoint{X: num(x), Y: num(y), Class: "pt pt-ok",
+			Title: fmt.Sprintf("#%d %s: %s %s, worst margin %s, %s", j.Index, j.ID, money(j.TotalCents), c.Currency, margin, j.Status)}
+		switch {
+		case j.Status == sweep.StatusInfeasible:
+			p.Class = "pt pt-infeasible"
+		case j.Pareto:
+			p.Class = "pt pt-pareto"
+			p.Label = "#" + strconv.Itoa(j.Index)
+			p.LX, p.LY = num(x+7), num(y-6)
+		}
+		if j.Pareto {
+			p.Title += ", Pareto-optimal"
+		}
+		s.Points = append(s.Points, p)
+	}
+	return s
+}
+
+// axis returns a padded range covering vs and round ticks across it.
+func axis(vs []float64) (lo, hi float64, ticks []float64) {
+	lo, hi = vs[0], vs[0]
+	for _, v := range vs {
+		lo, hi = math.Min(lo, v), math.Max(hi, v)
+	}
+	span := hi - lo
+	if span <= 0 {
+		span = math.Max(math.Abs(hi)*0.1, 1)
+	}
+	lo, hi = lo-span*0.08, hi+span*0.08
+	step := niceStep((hi - lo) / 5)
+	for t := math.Ceil(lo/step) * step; t <= hi+step*1e-9; t += step {
+		ticks = append(ticks, math.Round(t/step)*step)
+	}
+	return lo, hi, ticks
+}
+
+// niceStep is the smallest 1, 2 or 5 × 10^k not below x.
+func niceStep(x float64) float64 {
+	k := math.Pow(10, math.Floor(math.Log10(x)))
+	for _, f := range []float64{1, 2, 5, 10} {
+		if f*k >= x {
+			return f * k
+		}
+	}
+	return 10 * k
+}
+
+// decimals is how many decimals tell the ticks apart.
+func decimals(ticks []float64) int {
+	if len(ticks) < 2 {
+		return 1
+	}
+	step := ticks[1] - ticks[0]
+	d := int(math.Max(0, math.Ceil(-math.Log10(step)+1e-9)))
+	return min(d, 3)
+}
