@@ -104,9 +104,6 @@ func verifyErr(p *Problem, sol *Solution) error {
 		}
 		if p.Edges[e].Proposed {
 			opened = append(opened, e)
-			f := p.Edges[e].FixedCents
-			share := f / int64(len(us))
-			_ = share
 		}
 	}
 	if fmt.Sprint(opened) != fmt.Sprint(sol.Opened) {

@@ -1,0 +1,446 @@
+package optimize
+
+import (
+	"math"
+	"slices"
+)
+
+// The local search: reroute, close and open moves, the starts and the perturbation phase.
+
+// reroute rips demand d up and routes it again; it keeps the new route only if the plan improves.
+func (sv *solver) reroute(d int) bool {
+	if sv.invalid[d] != "" {
+		return false
+	}
+	before := sv.key()
+	old := sv.remove(d)
+	sv.add(d, sv.best(d))
+	if sv.key().less(before) {
+		return true
+	}
+	sv.remove(d)
+	sv.add(d, old)
+	return false
+}
+
+// keepOrRevert keeps the plan if it beats before, else puts ds back on their old choices.
+func (sv *solver) keepOrRevert(ds []int32, olds []choice, before key) bool {
+	if sv.key().less(before) {
+		return true
+	}
+	for i := len(ds) - 1; i >= 0; i-- {
+		sv.remove(int(ds[i]))
+		sv.add(int(ds[i]), olds[i])
+	}
+	return false
+}
+
+// closeMoves tries closing each opened proposed edge. A move is abandoned as soon as the
+// users rerouted so far cost more than the edge's FixedCents saves (the remaining users would
+// have to get cheaper than before, which rerouting around a closed edge does not do), and a
+// move that failed is not tried again until one of the edge's users changes route.
+func (sv *solver) closeMoves() bool {
+	changed := false
+	for _, e := range sv.proposed {
+		st := sv.st
+		if st.count[e] == 0 {
+			continue
+		}
+		users := slices.Clone(st.users[e])
+		sig := mix(uint64(e), 7)
+		for _, d := range users {
+			sig = mix(sig, st.sig[d])
+		}
+		if f, ok := sv.failedClose[e]; ok && f == sig {
+			continue
+		}
+		before := sv.key()
+		sv.forbid[e] = true
+		olds := make([]choice, 0, len(users))
+		var done []int32
+		for _, d := range users {
+			olds = append(olds, sv.remove(int(d)))
+			sv.add(int(d), sv.best(int(d)))
+			done = append(done, d)
+			if k := sv.key(); k.overfull == before.overfull && k.unrouted == before.unrouted &&
+				k.unmet == before.unmet && st.count[e] > 0 && k.total-before.total > sv.fixedE[e] {
+				break
+			}
+		}
+		sv.forbid[e] = false
+		if sv.keepOrRevert(done, olds, before) {
+			changed = true
+		} else {
+			sv.failedClose[e] = sig
+		}
+	}
+	return changed
+}
+
+type openCand struct {
+	edges    []int32
+	affected []int32
+}
+
+// openCandidates lists runs of unopened proposed edges on the demands' unconstrained cheapest
+// routes (from the lower-bound trees), each with the demands it may help.
+func (sv *solver) openCandidates() []openCand {
+	st := sv.st
+	nd := len(sv.p.Demands)
+	small := len(sv.proposed) <= 48 && nd <= 48
+	var all []int32
+	for d := 0; d < nd; d++ {
+		if sv.invalid[d] == "" {
+			all = append(all, int32(d))
+		}
+	}
+	optUsers := map[int32][]int32{}
+	seen := map[string]bool{}
+	var cands []openCand
+	addCand := func(edges []int32) {
+		if len(edges) == 0 {
+			return
+		}
+		es := slices.Clone(edges)
+		slices.Sort(es)
+		k := string(int32Key(es))
+		if seen[k] {
+			return
+		}
+		seen[k] = true
+		cands = append(cands, openCand{edges: es})
+	}
+	for _, d := range all {
+		o := st.ch[d].opt
+		if o < 0 {
+			o = 0
+		}
+		tr := sv.costTree(sv.to[d], sv.optProf[d][o])
+		var run, whole []int32
+		for _, h := range tr.pathFrom(sv.net, sv.from[d]) {
+			e := int32(h.Edge)
+			if sv.fixedE[e] > 0 && st.count[e] == 0 {
+				run = append(run, e)
+				whole = append(whole, e)
+				optUsers[e] = append(optUsers[e], d)
+				continue
+			}
+			addCand(run)
+			run = run[:0]
+		}
+		addCand(run)
+		addCand(whole)
+	}
+	if small {
+		for _, e := range sv.proposed {
+			if st.count[e] == 0 {
+				addCand([]int32{e})
+			}
+		}
+	}
+	for i := range cands {
+		if small {
+			cands[i].affected = all
+			continue
+		}
+		var aff []int32
+		for _, e := range cands[i].edges {
+			aff = append(aff, optUsers[e]...)
+		}
+		slices.Sort(aff)
+		cands[i].affected = slices.Compact(aff)
+	}
+	return cands
+}
+
+func int32Key(es []int32) []byte {
+	b := make([]byte, 0, 4*len(es))
+	for _, e := range es {
+		b = append(b, byte(e), byte(e>>8), byte(e>>16), byte(e>>24))
+	}
+	return b
+}
+
+// saveBound returns an upper bound of what demand d could save by any reroute: its current
+// cost share (option, cable and labour, edges only it opened, ducts on its edges) less its
+// lower-bound cost. Diverse demands still without a pair get no bound (math.MaxInt64 / 4).
+func (sv *solver) saveBound(d int) int64 {
+	st := sv.st
+	c := st.ch[d]
+	dm := &sv.p.Demands[d]
+	if c.opt < 0 || (dm.Diverse && len(c.legs) < 2) {
+		return math.MaxInt64 / 4
+	}
+	cur := c.varCost + dm.Options[c.opt].FixedCents
+	for _, leg := range c.legs {
+		for _, h := range leg {
+			if sv.fixedE[h.Edge] > 0 && st.count[h.Edge] == 1 {
+				cur += sv.fixedE[h.Edge]
+			}
+			if sv.limited[h.Edge] && st.added[h.Edge] > 0 {
+				cur += sv.ductCent[h.Edge]
+			}
+		}
+	}
+	lb := int64(math.MaxInt64)
+	for o := range dm.Options {
+		t := sv.costTree(sv.to[d], sv.optProf[d][o]).dist[sv.from[d]]
+		if t < 0 {
+			continue
+		}
+		if dm.Diverse {
+			t *= 2
+		}
+		lb = min(lb, t+dm.Options[o].FixedCents)
+	}
+	return max(0, cur-lb)
+}
+
+// estimate returns how much demand d would save by rerouting under the current move (phantom
+// and forbidden edges), computed without taking d out of the plan: an edge only d uses is
+// charged as unopened, and the duct penalties count d's own cable, so it is an estimate used to
+// screen moves before they are tried for real. It never changes the plan.
+func (sv *solver) estimate(d int) int64 {
+	st := sv.st
+	c := st.ch[d]
+	if c.opt < 0 || sv.invalid[d] != "" {
+		return 0
+	}
+	sv.selfSt++
+	if sv.selfSt == 0 {
+		clear(sv.self)
+		sv.selfSt = 1
+	}
+	for _, leg := range c.legs {
+		for _, h := range leg {
+			sv.self[h.Edge] = sv.selfSt
+		}
+	}
+	dm := &sv.p.Demands[d]
+	w := sv.weightFor(d, c.opt)
+	cur := dm.Options[c.opt].FixedCents
+	for _, leg := range c.legs {
+		for _, h := range leg {
+			we, ok := w(int32(h.Edge))
+			if !ok {
+				we = math.MaxInt64 / 8 // forbidden by the move: leaving it is a must
+			}
+			cur += we
+		}
+	}
+	nb := sv.best(d)
+	defer func() { sv.selfSt++ }() // end the in-place view
+	if nb.opt < 0 || (dm.Diverse && len(nb.legs) < len(c.legs)) {
+		return 0
+	}
+	nw := sv.weightFor(d, nb.opt)
+	nc := dm.Options[nb.opt].FixedCents
+	for _, leg := range nb.legs {
+		for _, h := range leg {
+			we, _ := nw(int32(h.Edge))
+			nc += we
+		}
+	}
+	return max(0, cur-nc)
+}
+
+// openMoves tries opening each candidate run. A candidate whose affected demands could not
+// together save the FixedCents of its unopened edges (by saveBound) is skipped, and a move
+// that failed is not tried again until an affected demand changes route.
+func (sv *solver) openMoves() bool {
+	changed := false
+	for _, c := range sv.openCandidates() {
+		st := sv.st
+		var openCost int64
+		sig := mix(0, 11)
+		for _, e := range c.edges {
+			if st.count[e] == 0 {
+				openCost += sv.fixedE[e]
+				sig = mix(sig, uint64(e))
+			}
+		}
+		if openCost == 0 || len(c.affected) == 0 {
+			continue
+		}
+		var bound int64
+		for _, d := range c.affected {
+			bound += sv.saveBound(int(d))
+			sig = mix(sig, st.sig[d])
+		}
+		if bound <= openCost {
+			continue
+		}
+		k := string(int32Key(c.edges))
+		if f, ok := sv.failedOpen[k]; ok && f == sig {
+			continue
+		}
+		for _, e := range c.edges {
+			sv.phantom[e] = true
+		}
+		var gain int64
+		for _, d := range c.affected {
+			if gain += sv.estimate(int(d)); gain > openCost {
+				break
+			}
+		}
+		if gain <= openCost {
+			for _, e := range c.edges {
+				sv.phantom[e] = false
+			}
+			sv.failedOpen[k] = sig
+			continue
+		}
+		before := sv.key()
+		olds := make([]choice, len(c.affected))
+		for i, d := range c.affected {
+			olds[i] = sv.remove(int(d))
+			sv.add(int(d), sv.best(int(d)))
+		}
+		for _, e := range c.edges {
+			sv.phantom[e] = false
+		}
+		if sv.keepOrRevert(c.affected, olds, before) {
+			changed = true
+		} else {
+			sv.failedOpen[k] = sig
+		}
+	}
+	return changed
+}
+
+// improve runs local search rounds on the current state.
+func (sv *solver) improve() int {
+	rounds := 0
+	moves := !sv.length && len(sv.proposed) > 0
+	for rounds < sv.maxRounds {
+		rounds++
+		changed := false
+		for d := range sv.p.Demands {
+			if sv.reroute(d) {
+				changed = true
+			}
+		}
+		if moves {
+			if sv.closeMoves() {
+				changed = true
+			}
+			if sv.openMoves() {
+				changed = true
+			}
+		}
+		if !changed {
+			break
+		}
+	}
+	return rounds
+}
+
+// start routes every demand in order; with open, every proposed edge is free in this pass.
+func (sv *solver) start(open bool) {
+	sv.st = newState(sv)
+	for _, e := range sv.proposed {
+		sv.phantom[e] = open
+	}
+	for d := range sv.p.Demands {
+		sv.add(d, sv.best(d))
+	}
+	for _, e := range sv.proposed {
+		sv.phantom[e] = false
+	}
+}
+
+func (sv *solver) run() {
+	sv.start(false)
+	sv.rounds = sv.improve()
+	if sv.length || len(sv.proposed) == 0 {
+		return
+	}
+	if len(sv.p.Demands)*len(sv.proposed) > maxSecondStart {
+		return
+	}
+	sv.flush()
+	first := sv.st
+	sv.start(true)
+	sv.rounds += sv.improve()
+	if !sv.key().less(first.key()) {
+		sv.st = first
+	}
+	if len(sv.p.Demands)*len(sv.proposed) <= maxKickWork {
+		sv.kicks()
+	}
+}
+
+// maxSecondStart bounds demands × proposed edges for which Solve also starts from the plan with
+// every proposed edge free; on larger problems the second start seldom wins and doubles the time.
+const maxSecondStart = 100000
+
+// maxKickWork bounds demands × proposed edges for which Solve runs the perturbation phase.
+const maxKickWork = 4096
+
+// restore rebuilds the state from saved choices.
+func (sv *solver) restore(saved []choice) {
+	sv.st = newState(sv)
+	for d, c := range saved {
+		sv.add(d, c)
+	}
+}
+
+// kicks is an iterated local search for small problems: from the local optimum, force a
+// change — open a candidate run of proposed edges for everyone, or forbid an opened edge —
+// descend again from there, and keep the result only if it beats the optimum it started from.
+// It catches trades that no single move finds, such as closing two edges while opening two
+// others. It repeats while a kick succeeds, at most Settings.MaxRounds times.
+func (sv *solver) kicks() {
+	for pass := 0; pass < sv.maxRounds; pass++ {
+		improved := false
+		var all []int32
+		for d := range sv.p.Demands {
+			if sv.invalid[d] == "" {
+				all = append(all, int32(d))
+			}
+		}
+		type kick struct {
+			open  []int32
+			close int32
+		}
+		var ks []kick
+		for _, c := range sv.openCandidates() {
+			ks = append(ks, kick{open: c.edges, close: -1})
+		}
+		for _, e := range sv.proposed {
+			if sv.st.count[e] > 0 {
+				ks = append(ks, kick{close: e})
+			}
+		}
+		for _, k := range ks {
+			before := sv.key()
+			saved := slices.Clone(sv.st.ch)
+			for _, e := range k.open {
+				sv.phantom[e] = true
+			}
+			if k.close >= 0 {
+				sv.forbid[k.close] = true
+			}
+			for _, d := range all {
+				sv.remove(int(d))
+				sv.add(int(d), sv.best(int(d)))
+			}
+			for _, e := range k.open {
+				sv.phantom[e] = false
+			}
+			if k.close >= 0 {
+				sv.improve()
+				sv.forbid[k.close] = false
+			}
+			sv.rounds += sv.improve()
+			if sv.key().less(before) {
+				improved = true
+				continue
+			}
+			sv.restore(saved)
+		}
+		if !improved {
+			break
+		}
+	}
+}

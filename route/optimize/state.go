@@ -1,0 +1,313 @@
+package optimize
+
+import (
+	"math"
+	"slices"
+)
+
+// The plan under construction and its exact, incremental cost accounting.
+
+type choice struct {
+	opt     int     // option index, -1 when unrouted
+	legs    [][]Hop // anchored orientation: from the demand's free end to its anchor
+	varCost int64   // Σ cable and labour cents over the legs
+	lenMM   int64   // Σ leg lengths in millimetres
+}
+
+type state struct {
+	ch       []choice
+	count    []int32     // cables per edge
+	users    [][]int32   // per tracked edge (proposed or limited): demands using it, ascending
+	added    []int       // per limited edge: ducts added
+	over     []bool      // per limited edge: cables do not fit
+	packs    []ductPack  // per limited edge: NFPA first-fit packing of its users (nil Fits only)
+	sig      []uint64    // per demand: hash of its choice, for skipping moves already tried
+	ods      [][]float64 // per limited edge: cable ODs of users, parallel to users
+	hsh      []uint64    // per limited edge: set hash of its (demand, OD) pairs
+	packH    []uint64    // per limited edge: the hash its packing was computed for
+	alt      []packState // per limited edge: the packing before the last flush
+	dirty    []int32     // limited edges touched since the last flush
+	isDirty  []bool
+	free     []float64 // per limited edge: largest cable area it takes without a new duct, mm²
+	total    int64     // plan cost in cents (without construction and ducts for the length objective)
+	totalMM  int64
+	overfull int
+	unrouted int
+	unmet    int
+}
+
+type key struct {
+	overfull, unrouted, unmet int
+	total, totalMM            int64
+}
+
+func (a key) less(b key) bool {
+	if a.overfull != b.overfull {
+		return a.overfull < b.overfull
+	}
+	if a.unrouted != b.unrouted {
+		return a.unrouted < b.unrouted
+	}
+	if a.unmet != b.unmet {
+		return a.unmet < b.unmet
+	}
+	if a.total != b.total {
+		return a.total < b.total
+	}
+	return a.totalMM < b.totalMM
+}
+
+func newState(sv *solver) *state {
+	ne, nd := len(sv.p.Edges), len(sv.p.Demands)
+	st := &state{ch: make([]choice, nd), count: make([]int32, ne), users: make([][]int32, ne),
+		added: make([]int, ne), over: make([]bool, ne), packs: make([]ductPack, ne), sig: make([]uint64, nd),
+		ods: make([][]float64, ne), hsh: make([]uint64, ne), packH: make([]uint64, ne),
+		alt: make([]packState, ne), isDirty: make([]bool, ne), free: make([]float64, ne)}
+	for e := range st.packs {
+		if sv.limited[e] {
+			st.packs[e].reset(circleMM2(sv.p.Edges[e].DuctIDMM))
+			st.free[e] = math.Inf(-1)
+			if sv.p.Edges[e].Ducts > 0 {
+				st.free[e] = FillOneCable * st.packs[e].areaMM2
+			}
+		}
+	}
+	for d := range st.ch {
+		st.ch[d].opt = -1
+		st.unrouted++
+	}
+	return st
+}
+
+func (st *state) key() key { return key{st.overfull, st.unrouted, st.unmet, st.total, st.totalMM} }
+
+func (sv *solver) od(d, o int) float64 { return sv.p.Demands[d].Options[o].CableODMM }
+
+// Duct packings are computed lazily. add and remove only update an edge's users and a set
+// hash of its (demand, cable OD) pairs; key flushes the edges whose hash differs from the one
+// their packing was computed for. A reroute that keeps its route therefore costs nothing here,
+// and a move that is reverted swaps back the previous packing (kept per edge) in O(1), instead
+// of repacking every cable of a duct bank that thousands of cables share. Searches in between
+// read the packing as last flushed, which is one more reason their duct penalties are estimates.
+
+// packState is a saved packing and its outcome.
+type packState struct {
+	count []int
+	used  []float64
+	seg   []float64
+	size  int
+	added int
+	ok    bool
+	h     uint64
+	valid bool
+}
+
+func itemHash(d int, od float64) uint64 { return mix(uint64(d)+1, math.Float64bits(od)) }
+
+// touch records that demand d's cable (od) joined or left limited edge e.
+func (sv *solver) touch(e, d int, od float64) {
+	st := sv.st
+	st.hsh[e] ^= itemHash(d, od)
+	if !st.isDirty[e] {
+		st.isDirty[e] = true
+		st.dirty = append(st.dirty, int32(e))
+	}
+}
+
+// flush brings the packing of every touched edge up to date.
+func (sv *solver) flush() {
+	st := sv.st
+	for _, e32 := range st.dirty {
+		e := int(e32)
+		st.isDirty[e] = false
+		if st.hsh[e] == st.packH[e] {
+			continue
+		}
+		cur, alt := &st.packs[e], &st.alt[e]
+		swapWith := alt.valid && alt.h == st.hsh[e]
+		// Exchange the current packing with the saved one.
+		cur.count, alt.count = alt.count, cur.count
+		cur.used, alt.used = alt.used, cur.used
+		cur.seg, alt.seg = alt.seg, cur.seg
+		cur.size, alt.size = alt.size, cur.size
+		added, ok := alt.added, alt.ok
+		alt.added, alt.ok, alt.h, alt.valid = st.added[e], !st.over[e], st.packH[e], true
+		if !swapWith {
+			added, ok = sv.cap.needed(e, st.ods[e], cur)
+		}
+		st.packH[e] = st.hsh[e]
+		sv.applyDucts(e, added, ok)
+	}
+	st.dirty = st.dirty[:0]
+}
+
+// key flushes the packings and returns the plan's objective key.
+func (sv *solver) key() key {
+	sv.flush()
+	return sv.st.key()
+}
+
+// applyDucts records edge e's new duct count and fit and updates the total.
+func (sv *solver) applyDucts(e, added int, ok bool) {
+	st := sv.st
+	if !ok {
+		added = st.added[e]
+	}
+	if ok == st.over[e] {
+		if ok {
+			st.overfull--
+		} else {
+			st.overfull++
+		}
+		st.over[e] = !ok
+	}
+	if !sv.length {
+		st.total += int64(added-st.added[e]) * sv.ductCent[e]
+	}
+	st.added[e] = added
+	pk := &st.packs[e]
+	st.free[e] = math.Inf(-1)
+	if pk.size > 0 {
+		st.free[e] = pk.seg[1]
+	}
+	if len(pk.count) < sv.p.Edges[e].Ducts+added {
+		st.free[e] = max(st.free[e], FillOneCable*pk.areaMM2)
+	}
+}
+
+// mix is a 64-bit hash step (SplitMix64 finaliser).
+func mix(h, v uint64) uint64 {
+	h ^= v + 0x9e3779b97f4a7c15 + (h << 6) + (h >> 2)
+	h ^= h >> 30
+	h *= 0xbf58476d1ce4e5b9
+	h ^= h >> 27
+	h *= 0x94d049bb133111eb
+	return h ^ (h >> 31)
+}
+
+func (sv *solver) add(d int, c choice) {
+	st := sv.st
+	st.ch[d] = c
+	h := mix(0, uint64(c.opt+1))
+	for _, leg := range c.legs {
+		h = mix(h, 1<<40)
+		for _, hp := range leg {
+			h = mix(h, uint64(hp.Edge))
+		}
+	}
+	st.sig[d] = h
+	if c.opt < 0 {
+		return
+	}
+	st.unrouted--
+	if sv.p.Demands[d].Diverse && len(c.legs) < 2 {
+		st.unmet++
+	}
+	st.total += c.varCost + sv.p.Demands[d].Options[c.opt].FixedCents
+	st.totalMM += c.lenMM
+	for _, leg := range c.legs {
+		for _, h := range leg {
+			e := h.Edge
+			st.count[e]++
+			if st.count[e] == 1 {
+				st.total += sv.fixedE[e]
+			}
+			if sv.tracked[e] {
+				i, _ := slices.BinarySearch(st.users[e], int32(d))
+				st.users[e] = slices.Insert(st.users[e], i, int32(d))
+				if sv.limited[e] {
+					st.ods[e] = slices.Insert(st.ods[e], i, sv.od(d, c.opt))
+					sv.touch(e, d, sv.od(d, c.opt))
+				}
+			}
+		}
+	}
+}
+
+func (sv *solver) remove(d int) choice {
+	st := sv.st
+	c := st.ch[d]
+	if c.opt < 0 {
+		return c
+	}
+	for _, leg := range c.legs {
+		for _, h := range leg {
+			e := h.Edge
+			st.count[e]--
+			if st.count[e] == 0 {
+				st.total -= sv.fixedE[e]
+			}
+			if sv.tracked[e] {
+				i, found := slices.BinarySearch(st.users[e], int32(d))
+				if !found {
+					panic("optimize: demand missing from an edge's users")
+				}
+				st.users[e] = slices.Delete(st.users[e], i, i+1)
+				if sv.limited[e] {
+					st.ods[e] = slices.Delete(st.ods[e], i, i+1)
+					sv.touch(e, d, sv.od(d, c.opt))
+				}
+			}
+		}
+	}
+	st.total -= c.varCost + sv.p.Demands[d].Options[c.opt].FixedCents
+	st.totalMM -= c.lenMM
+	if sv.p.Demands[d].Diverse && len(c.legs) < 2 {
+		st.unmet--
+	}
+	st.unrouted++
+	st.ch[d] = choice{opt: -1}
+	return c
+}
+
+// penalty returns the price of the ducts demand d's cable (option o) would add to edge e if it
+// were pulled last, and whether it can be pulled there at all; the state must not contain d.
+// Pulling last is an approximation when d is not the last user in demand order (the packing
+// follows demand order): the search uses it to stay O(ducts) per edge, and add and remove
+// then account the exact duct count, so a move is judged on the exact cost.
+func (sv *solver) penalty(d, o int, e int32, areaMM2 float64) (int64, bool) {
+	st := sv.st
+	if areaMM2 == 0 {
+		return 0, true // a cable that takes no duct area
+	}
+	if sv.cap.fits == nil {
+		var pen int64
+		switch {
+		case areaMM2 <= st.free[e]+1e-9:
+			return 0, true
+		case sv.p.Edges[e].AddDuctPerMCents > 0 && areaMM2 <= FillOneCable*st.packs[e].areaMM2+1e-9:
+			pen = sv.ductCent[e]
+		default:
+			return 0, false
+		}
+		if sv.length {
+			pen = 0
+		}
+		return pen, true
+	}
+	if sv.penSt[e] == sv.penN {
+		return sv.pen[e], sv.penOK[e]
+	}
+	ed := &sv.p.Edges[e]
+	var pen int64
+	ok := true
+	avail := ed.Ducts + st.added[e]
+	ods := sv.odBuf[:0]
+	for _, u := range st.users[e] {
+		ods = append(ods, sv.od(int(u), st.ch[u].opt))
+	}
+	ods = append(ods, sv.od(d, o))
+	sv.odBuf = ods
+	switch {
+	case sv.cap.fits(int(e), ods, avail):
+	case ed.AddDuctPerMCents > 0 && sv.cap.fits(int(e), ods, avail+1):
+		pen = sv.ductCent[e]
+	default:
+		ok = false
+	}
+	if sv.length {
+		pen = 0
+	}
+	sv.penSt[e], sv.pen[e], sv.penOK[e] = sv.penN, pen, ok
+	return pen, ok
+}
