@@ -7,7 +7,7 @@
 //
 //	base: plan.yaml                 # the plan the scenarios start from, relative to this file
 //	vary:                           # the cartesian product of these axes
-//	  hub: [ADM, LIB]
+//	  hub: [ADM, ENG]
 //	  defaults.rate: [10G, 25G]
 //	  prices: [prices-low.yaml, prices-high.yaml]
 //	  design.allow_new_trench: [true, false]
@@ -36,8 +36,8 @@
 // order. Index is the 0-based position in that order.
 //
 // Each scenario has an id (see ScenarioID): a readable slug and eight hexadecimal digits of
-// the SHA-256 of its canonical override list, such as adm-10g-prices-low-allow-new-trench-3f09a2c1
-// or all-diverse-6d1e0b7a. A scenario keeps its id when the sweep gains values or cases, so
+// the SHA-256 of its canonical override list, such as adm-10g-prices-low-allow-new-trench-6d7bb237
+// or all-diverse-bcb3603c. A scenario keeps its id when the sweep gains values or cases, so
 // a grown sweep resumes; a new axis changes the overrides, so the ids, of the whole product.
 //
 // Each scenario's plan is the base plan's YAML with the overrides applied to its node tree,
@@ -57,9 +57,15 @@
 //	rows.jsonl           one JSON object per scenario (a header line first), in index order
 //	compare.csv, compare.xlsx, compare.md   the comparison, see Compare
 //
+// rows.jsonl starts with a header line, {"format":"spanwright sweep rows 1","sweep":…,
+// "scenarios":N,"keys":[…]}, where sweep is the SHA-256 of the base plan's hash and the
+// scenario ids (so shards of another sweep, or of another version of the base plan, are not
+// merged) and keys are the override keys; then one Row per line in index order.
+//
 // Scenario folders appear whole or not at all (written under .tmp-<id>.* and renamed). With
 // Options.Resume a scenario whose folder holds summary.json and an inputs.sha256 equal to the
-// one it would write now is not planned again. A sharded run (Options.Shard, i of n) plans
+// one it would write now is not planned again (plan.yaml names the output units when they are
+// not metric, so a change of units plans again). A sharded run (Options.Shard, i of n) plans
 // the scenarios whose index modulo n is i-1 and writes rows-i-of-n.jsonl instead of rows.jsonl
 // and the comparison; Merge joins the rows files of every shard into the comparison, byte for
 // byte what the unsharded sweep writes. Shards may share one output folder or use one each.

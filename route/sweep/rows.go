@@ -101,7 +101,7 @@ func shardRowsFile(s Shard) string { return fmt.Sprintf("rows-%d-of-%d.jsonl", s
 // rowsHeader is the first line of a rows file: which sweep the rows belong to.
 type rowsHeader struct {
 	Format    string   `json:"format"`
-	Sweep     string   `json:"sweep"`     // SHA-256 of the scenario ids in order, one a line
+	Sweep     string   `json:"sweep"`     // SHA-256 of the base plan's hash and the scenario ids in order, one a line
 	Scenarios int      `json:"scenarios"` // in the whole sweep
 	Keys      []string `json:"keys"`      // override keys, the comparison's columns
 	Shard     string   `json:"shard,omitempty"`
@@ -109,6 +109,8 @@ type rowsHeader struct {
 
 func sweepHash(f *File) string {
 	h := sha256.New()
+	base := sha256.Sum256(f.baseData)
+	h.Write([]byte(hex.EncodeToString(base[:]) + "\n"))
 	for _, s := range f.Scenarios() {
 		h.Write([]byte(s.ID + "\n"))
 	}

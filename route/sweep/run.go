@@ -452,7 +452,12 @@ func (r *runner) planYAML(sc Scenario) ([]byte, error) {
 	root := doc.Content[0]
 	rebasePlanPaths(root, r.rebaseBase)
 	apply(root, sc.Set, r.rebaseSweep)
-	doc.HeadComment = strings.TrimSpace("scenario " + sc.ID + ": " + sc.Describe() + "\n" + doc.HeadComment)
+	head := "scenario " + sc.ID + ": " + sc.Describe()
+	if u := r.opt.Write.Units; u != "" && u != route.UnitsMetric {
+		// Part of the plan's bytes, so a resumed sweep in other units plans again.
+		head += "\noutputs written in " + u + " units"
+	}
+	doc.HeadComment = strings.TrimSpace(head + "\n" + doc.HeadComment)
 	var b bytes.Buffer
 	enc := yaml.NewEncoder(&b)
 	enc.SetIndent(2)
