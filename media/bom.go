@@ -49,9 +49,14 @@ type Quantity struct {
 // BOMLine is one priced line of a bill of materials.
 type BOMLine struct {
 	Category string
-	Item     string // for labour, the work and the rate in words, e.g. "pull cable in duct: 1234.5 m at 60 m per hour"
+	Item     string // the quantity's item, e.g. "pull cable in duct"
 	Unit     string // UnitM, UnitEach or UnitHour
 	Price    PriceKey
+	// Labour only: the work billed, in WorkUnit (the quantity's unit), and the book's rate
+	// in WorkUnit per hour; see Describe.
+	Work        float64
+	WorkUnit    string
+	RatePerHour float64
 	// Quantity is what is billed, in Unit: metres rounded to 0.1 m, counts whole, hours
 	// rounded up to 0.01 h.
 	Quantity      float64
@@ -74,7 +79,7 @@ type Subtotal struct {
 type BOM struct {
 	Label    string // the price book's label, e.g. "demo prices, invented, not a quotation"
 	Currency string
-	Lines    []BOMLine  // by category in Categories order, then by item, unit and price key
+	Lines    []BOMLine  // by category in Categories order, then price key (as PriceBook.Keys), item and unit
 	Subtotal []Subtotal // one per category in Categories order, empty categories included
 
 	SubtotalCents    int64
@@ -167,8 +172,7 @@ func (p *PriceBook) Bill(qs []Quantity) (*BOM, error) {
 		case k.rate.Item != "":
 			rate, _ := p.Rate(k.rate)
 			hundredths = int64(math.Ceil(amount/rate*100 - 1e-6))
-			line.Unit = UnitHour
-			line.Item = fmt.Sprintf("%s: %s at %s per hour", k.item, workAmount(amount, k.unit), workAmount(rate, k.unit))
+			line.Unit, line.Work, line.WorkUnit, line.RatePerHour = UnitHour, amount, k.unit, rate
 		case k.unit == UnitEach:
 			hundredths = 100 * int64(math.Ceil(amount-1e-9))
 		default:
@@ -186,13 +190,13 @@ func (p *PriceBook) Bill(qs []Quantity) (*BOM, error) {
 		if x.Category != y.Category {
 			return categoryRank[x.Category] < categoryRank[y.Category]
 		}
+		if x.Price != y.Price {
+			return keyLess(x.Price, y.Price)
+		}
 		if x.Item != y.Item {
 			return x.Item < y.Item
 		}
-		if x.Unit != y.Unit {
-			return x.Unit < y.Unit
-		}
-		return x.Price.String() < y.Price.String()
+		return x.Unit < y.Unit
 	})
 	b.total()
 	return b, nil
@@ -224,11 +228,38 @@ func (b *BOM) total() {
 	b.TotalCents = b.SubtotalCents + b.ContingencyCents + b.OverheadCents + b.TaxCents
 }
 
-// workAmount writes an amount of work for a labour line: metres with one decimal, counts
-// as they are.
-func workAmount(x float64, unit string) string {
-	if unit == UnitM {
-		return strconv.FormatFloat(x, 'f', 1, 64) + " m"
+// Describe is the line's item in words; for labour it adds the work and the rate, e.g.
+// "pull cable in duct: 1234.5 m at 60.0 m per hour", "terminate fibre strands: 96 at 8 per
+// hour". perM scales metres for another unit (nil keeps metres, with unit name m).
+func (l BOMLine) Describe(perM func(float64) float64, unitName string) string {
+	if l.WorkUnit == "" {
+		return l.Item
 	}
-	return strconv.FormatFloat(x, 'f', -1, 64)
+	amount := func(x float64) string {
+		if l.WorkUnit != UnitM {
+			return strconv.FormatFloat(x, 'f', -1, 64)
+		}
+		if perM == nil {
+			return strconv.FormatFloat(x, 'f', 1, 64) + " m"
+		}
+		return strconv.FormatFloat(perM(x), 'f', 1, 64) + " " + unitName
+	}
+	return fmt.Sprintf("%s: %s at %s per hour", l.Item, amount(l.Work), amount(l.RatePerHour))
+}
+
+// keyLess orders price keys by item, medium, construction, name and count, as Keys does.
+func keyLess(a, b PriceKey) bool {
+	if a.Item != b.Item {
+		return a.Item < b.Item
+	}
+	if a.Medium != b.Medium {
+		return a.Medium < b.Medium
+	}
+	if a.Construction != b.Construction {
+		return a.Construction < b.Construction
+	}
+	if a.Name != b.Name {
+		return a.Name < b.Name
+	}
+	return a.Count < b.Count
 }

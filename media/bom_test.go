@@ -38,7 +38,7 @@ func TestBillWorked(t *testing.T) {
 	}{
 		{"cable os2 osp-loose-tube 12", UnitM, 1000.0, 143, 143000},
 		{"fibre enclosure 24 ports", UnitEach, 2, 31000, 62000},
-		{"pull cable in duct: 125.0 m at 60.0 m per hour", UnitHour, 2.09, 9200, 19228},
+		{"pull cable in duct", UnitHour, 2.09, 9200, 19228},
 		{"trench in turf", UnitM, 10.3, 4800, 49440},
 		{"transceiver 10GBASE-LR", UnitEach, 2, 4500, 9000},
 	}
@@ -72,6 +72,16 @@ func TestBillWorked(t *testing.T) {
 		if c.got != c.want {
 			t.Errorf("%s: got %d cents, want %d", c.name, c.got, c.want)
 		}
+	}
+	if got := b.Lines[2].Describe(nil, ""); got != "pull cable in duct: 125.0 m at 60.0 m per hour" {
+		t.Errorf("labour described: got %q", got)
+	}
+	ft := func(m float64) float64 { return m / 0.3048 }
+	if got := b.Lines[2].Describe(ft, "ft"); got != "pull cable in duct: 410.1 ft at 196.9 ft per hour" {
+		t.Errorf("labour described in feet: got %q", got)
+	}
+	if got := b.Lines[0].Describe(ft, "ft"); got != "cable os2 osp-loose-tube 12" {
+		t.Errorf("material described: got %q", got)
 	}
 	if top := b.Largest(2); len(top) != 2 || top[0].ExtendedCents != 143000 || top[1].ExtendedCents != 62000 {
 		t.Errorf("largest two: got %+v", top)

@@ -43,6 +43,14 @@ func qtyDecimals(unit string) int {
 	return 1
 }
 
+// describe is a BOM line's item at the output edge, labour work in feet when imperial.
+func describe(opt WriteOptions, l media.BOMLine) string {
+	if opt.imperial() {
+		return l.Describe(install.MToFt, "ft")
+	}
+	return l.Describe(nil, "")
+}
+
 func pct(bp int64) string { return strconv.FormatFloat(float64(bp)/100, 'f', 2, 64) }
 
 // bomCSV renders bom.csv: one row per line (category, item, unit, quantity, unit price,
@@ -60,7 +68,7 @@ func (r *Result) bomCSV(opt WriteOptions) ([]byte, error) {
 		if unit == "ft" {
 			p = strconv.FormatFloat(price, 'f', 4, 64)
 		}
-		w.Write([]string{l.Category, l.Item, unit, q, p, media.FormatCents(l.ExtendedCents)})
+		w.Write([]string{l.Category, describe(opt, l), unit, q, p, media.FormatCents(l.ExtendedCents)})
 	}
 	for _, s := range b.Subtotal {
 		w.Write([]string{rowSubtotal, s.Category, "", "", "", media.FormatCents(s.Cents)})
@@ -153,7 +161,7 @@ func (r *Result) bomXLSX(opt WriteOptions) ([]byte, error) {
 		if unit == "ft" {
 			dp = 4
 		}
-		bom.Append(workbook.Text(l.Category), workbook.Text(l.Item), workbook.Text(unit), workbook.Number(qty, dq),
+		bom.Append(workbook.Text(l.Category), workbook.Text(describe(opt, l)), workbook.Text(unit), workbook.Number(qty, dq),
 			workbook.Number(price, dp), workbook.Formula(fmt.Sprintf("ROUND(%s*%s,2)", workbook.Ref(3, row), workbook.Ref(4, row)), 2))
 	}
 	last := max(n+1, 2)

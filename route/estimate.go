@@ -311,7 +311,11 @@ func (r *Result) pullPlan(i int, added map[string]bool) {
 				if q > 0 && bq < len(sp.BendsDeg) && sp.BendsDeg[bq] > 0 {
 					steps = append(steps, install.Step{Kind: install.KindBend, AngleDeg: sp.BendsDeg[bq], RadiusM: rm})
 				}
-				steps = append(steps, install.Step{Kind: install.KindStraight, LengthM: segs[qq]})
+				if n := len(steps); n > 0 && steps[n-1].Kind == install.KindStraight && (q > 0 || j == first) {
+					steps[n-1].LengthM += segs[qq] // straight on: one straight
+				} else {
+					steps = append(steps, install.Step{Kind: install.KindStraight, LengthM: segs[qq]})
+				}
 			}
 		}
 		plan, err := install.Sections(steps, points, spec)
@@ -432,12 +436,14 @@ func cover(sizes []int, n int) map[int]int {
 	return out
 }
 
-// counts are the sizes the book prices for item, ascending.
-func counts(p *media.PriceBook, item string) []int {
-	var out []int
+// counts are the sizes the book prices for each item, ascending.
+func counts(p *media.PriceBook, items ...string) map[string][]int {
+	out := map[string][]int{}
 	for _, k := range p.Keys() {
-		if k.Item == item {
-			out = append(out, k.Count)
+		for _, it := range items {
+			if k.Item == it {
+				out[it] = append(out[it], k.Count)
+			}
 		}
 	}
 	return out
@@ -458,7 +464,8 @@ func trayStrands(p *media.PriceBook) int {
 // building's patch panels (common practice, no published source).
 func (r *Result) connectivity() {
 	p := r.Engine.PriceBook()
-	panels, encl, copper := counts(p, media.PriceAdapterPanel), counts(p, media.PriceEnclosure), counts(p, media.PriceCopperPanel)
+	sizes := counts(p, media.PriceAdapterPanel, media.PriceEnclosure, media.PriceCopperPanel)
+	panels, encl, copper := sizes[media.PriceAdapterPanel], sizes[media.PriceEnclosure], sizes[media.PriceCopperPanel]
 	byB := map[string]*Connectivity{}
 	get := func(b string) *Connectivity {
 		c, ok := byB[b]
@@ -549,6 +556,7 @@ func (r *Result) quantities() {
 	e := r.Estimate
 	p := r.Engine.PriceBook()
 	cat := r.Engine.Catalog()
+	e.Quantities = make([]media.Quantity, 0, 16*len(r.Legs)+8*len(e.Buildings)+8)
 	add := func(category, item, unit string, amount float64, price media.PriceKey) {
 		e.Quantities = append(e.Quantities, media.Quantity{Category: category, Item: item, Unit: unit, Amount: amount, Price: price})
 	}
@@ -558,9 +566,8 @@ func (r *Result) quantities() {
 			Amount: amount, Price: hour, Rate: rate})
 	}
 	cords := p.Has(media.PricePatchCord)
-	pull := func(t string, m float64) {
-		work("pull cable in "+t, media.UnitM, m, media.PriceKey{Item: media.RatePull, Name: t})
-	}
+	pulled := map[string]float64{}
+	pull := func(t string, m float64) { pulled[t] += m }
 	for i := range r.Legs {
 		l := &r.Legs[i]
 		if !l.Feasible {
@@ -608,6 +615,9 @@ func (r *Result) quantities() {
 		pull(geo.TypeTray, (l.RiserM+t.EndSlackM+t.EntranceLoopM)*n)
 		pull(geo.TypeBuried, l.LateralM*n)
 		pull(geo.TypeDuct, t.StructureLoopM*n)
+	}
+	for _, t := range sortedKeys(pulled) {
+		work("pull cable in "+t, media.UnitM, pulled[t], media.PriceKey{Item: media.RatePull, Name: t})
 	}
 	for _, c := range e.Buildings {
 		for _, size := range sortedKeys(c.AdapterPanels) {

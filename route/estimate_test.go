@@ -289,8 +289,8 @@ func TestReelJoinsInLossBudget(t *testing.T) {
 	if got := bomQty(cut.Estimate.BOM, "splice closure, mid-span join"); got != joins {
 		t.Errorf("closures: got %v, want %v", got, joins)
 	}
-	if l, ok := bomLine(cut.Estimate.BOM, "splice fibre, mid-span joins: "); !ok ||
-		!strings.HasPrefix(l.Item, fmt.Sprintf("splice fibre, mid-span joins: %d at", splices)) {
+	if l, ok := bomLine(cut.Estimate.BOM, "splice fibre, mid-span joins"); !ok || l.Work != float64(splices) ||
+		!strings.HasPrefix(l.Describe(nil, ""), fmt.Sprintf("splice fibre, mid-span joins: %d at", splices)) {
 		t.Errorf("splicing labour: got %+v", l)
 	}
 	if _, ok := bomLine(base.Estimate.BOM, "splice closure"); ok {

@@ -336,7 +336,7 @@ func (r *Result) Summarize() Summary {
 			s.CostByCategory[c.Category] = c.Cents
 		}
 		for _, l := range b.Largest(5) {
-			d := CostDriver{Category: l.Category, Item: l.Item, Cents: l.ExtendedCents}
+			d := CostDriver{Category: l.Category, Item: l.Describe(nil, ""), Cents: l.ExtendedCents}
 			if b.SubtotalCents > 0 {
 				d.Pct = round1(100 * float64(l.ExtendedCents) / float64(b.SubtotalCents))
 			}
