@@ -342,11 +342,41 @@ func (sv *solver) start(open bool) {
 		sv.phantom[e] = open
 	}
 	for d := range sv.p.Demands {
-		sv.add(d, sv.best(d))
+		sv.place(d)
 	}
 	for _, e := range sv.proposed {
 		sv.phantom[e] = false
 	}
+}
+
+// place adds demand d's best choice to the plan. The searches estimate duct fill, so the exact
+// packing may find that the cable does not fit an edge where no duct can be added; the edge is
+// then forbidden for d and d routed again, a few times, before d is left unrouted.
+func (sv *solver) place(d int) {
+	before := sv.key().overfull
+	var banned []int
+	defer func() {
+		for _, e := range banned {
+			sv.forbid[e] = false
+		}
+	}()
+	for try := 0; try < 4; try++ {
+		c := sv.best(d)
+		sv.add(d, c)
+		if sv.key().overfull <= before {
+			return
+		}
+		for _, leg := range c.legs {
+			for _, h := range leg {
+				if sv.limited[h.Edge] && sv.st.over[h.Edge] && !sv.forbid[h.Edge] {
+					sv.forbid[h.Edge] = true
+					banned = append(banned, h.Edge)
+				}
+			}
+		}
+		sv.remove(d)
+	}
+	sv.add(d, choice{opt: -1})
 }
 
 func (sv *solver) run() {
