@@ -194,3 +194,11 @@ func allowedArea(ductIDMM float64, ods []float64) (usedMM2, allowedMM2 float64) 
 	}
 	return usedMM2, allowedMM2
 }
+
+// NFPAFitsFor returns the FitsFunc Solve uses when Problem.Fits is nil: NFPAFits with each
+// edge's DuctIDMM, for callers that wrap or compare with the default rule.
+func NFPAFitsFor(edges []Edge) FitsFunc {
+	return func(edge int, cableODsMM []float64, ducts int) bool {
+		return NFPAFits(edges[edge].DuctIDMM, cableODsMM, ducts)
+	}
+}

@@ -355,3 +355,35 @@ func TestCampusPlansValid(t *testing.T) {
 		}
 	}
 }
+
+// TestAnchorAtSource: when the shared end of the demands is their source, searches run from
+// the targets and the routes are turned round; the default fill rule and NFPAFitsFor agree.
+func TestAnchorAtSource(t *testing.T) {
+	t.Parallel()
+	p := randomInstance(77, 8, 8)
+	for i := range p.Demands {
+		p.Demands[i].Source, p.Demands[i].Target = p.Demands[i].Target, p.Demands[i].Source
+	}
+	a, err := Solve(p, Settings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	verify(t, "anchor at source", p, a)
+	for i := range p.Edges {
+		p.Edges[i].DuctIDMM, p.Edges[i].Ducts = 40, 1
+	}
+	b, err := Solve(p, Settings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	p.Fits = NFPAFitsFor(p.Edges)
+	c, err := Solve(p, Settings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	verify(t, "default fill", p, b)
+	if b.TotalCents != c.TotalCents || len(b.Infeasible) != len(c.Infeasible) {
+		t.Errorf("default rule %d cents (%d infeasible), NFPAFitsFor %d cents (%d infeasible)",
+			b.TotalCents, len(b.Infeasible), c.TotalCents, len(c.Infeasible))
+	}
+}
