@@ -45,9 +45,13 @@ type CableTakeoff struct {
 	Joins    int     // mid-span splices between reels; each strand's path crosses every one
 
 	// Filled once the medium is chosen.
-	Size       media.Size // the cable size of the chosen construction
-	Cables     int        // cables of Size
-	Terminated int        // strands (4-pair cables for copper) terminated at each end
+	Size   media.Size // the cable size of the chosen construction
+	Cables int        // cables of Size
+	// Terminated is the strands terminated at each end; for copper, the 4-pair cables, one
+	// per two strands (the catalog lists copper per 4-pair cable only: multipair backbone
+	// cable of 25 to 600 pairs carries no IEEE 802.3 application it lists, so it is neither
+	// priced nor chosen).
+	Terminated int
 }
 
 // SlackM is every slack loop of the leg, in metres.
@@ -63,7 +67,10 @@ func (s *Site) takeoff(d Design, leg *Leg) CableTakeoff {
 	t.ChannelM = leg.RouteM + leg.RiserM + t.SlackM()
 	t.WasteM = t.ChannelM * d.WastePct / 100
 	t.LengthM = math.Ceil(t.ChannelM + t.WasteM - 1e-9)
-	t.Reels = max(1, int(math.Ceil(t.LengthM/d.ReelM-1e-9)))
+	t.Reels = 1
+	if d.ReelM > 0 { // a plan built in code may leave it 0: no reel limit
+		t.Reels = max(1, int(math.Ceil(t.LengthM/d.ReelM-1e-9)))
+	}
 	t.Joins = t.Reels - 1
 	return t
 }
