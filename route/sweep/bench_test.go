@@ -7,58 +7,43 @@ import (
 	"path/filepath"
 	"runtime"
 	"strings"
-	"sync"
 	"testing"
 )
 
-// benchSweep writes, once per size, a sweep of the demo campus with n scenarios: the product
-// of strand counts, growth fractions and slack lengths, none of which changes the network.
-var benchSweep = struct {
-	once  sync.Once
-	dir   string
-	files map[int]*File
-	err   error
-}{files: map[int]*File{}}
-
+// benchSizes are the axes' lengths of each benchmarked sweep size.
 var benchSizes = map[int][3]int{100: {5, 5, 4}, 1000: {10, 10, 10}}
 
+// benchFile writes a sweep of the demo campus with n scenarios into a temporary folder: the
+// product of strand counts, growth fractions and slack lengths, none of which changes the
+// network, so the site is built once.
 func benchFile(b *testing.B, n int) *File {
 	b.Helper()
-	benchSweep.once.Do(func() {
-		benchSweep.dir, benchSweep.err = os.MkdirTemp("", "sweep-bench-")
-		if benchSweep.err != nil {
-			return
-		}
-		base, _ := filepath.Abs("../../testdata/demo/plan.yaml")
-		for size, dims := range benchSizes {
-			var strands, growth, slack []string
-			for i := 0; i < dims[0]; i++ {
-				strands = append(strands, fmt.Sprint(6+6*i))
-			}
-			for i := 0; i < dims[1]; i++ {
-				growth = append(growth, fmt.Sprint(float64(i)/10))
-			}
-			for i := 0; i < dims[2]; i++ {
-				slack = append(slack, fmt.Sprint(2+i))
-			}
-			src := fmt.Sprintf("base: %s\nvary:\n  defaults.strands: [%s]\n  defaults.growth: [%s]\n  design.slack_m: [%s]\n",
-				base, strings.Join(strands, ", "), strings.Join(growth, ", "), strings.Join(slack, ", "))
-			path := filepath.Join(benchSweep.dir, fmt.Sprintf("sweep-%d.yaml", size))
-			if benchSweep.err = os.WriteFile(path, []byte(src), 0o644); benchSweep.err != nil {
-				return
-			}
-			f, err := Load(path)
-			if err != nil {
-				benchSweep.err = err
-				return
-			}
-			benchSweep.files[size] = f
-		}
-	})
-	if benchSweep.err != nil {
-		b.Fatal(benchSweep.err)
+	dims := benchSizes[n]
+	base, err := filepath.Abs("../../testdata/demo/plan.yaml")
+	if err != nil {
+		b.Fatal(err)
 	}
-	return benchSweep.files[n]
+	var strands, growth, slack []string
+	for i := 0; i < dims[0]; i++ {
+		strands = append(strands, fmt.Sprint(6+6*i))
+	}
+	for i := 0; i < dims[1]; i++ {
+		growth = append(growth, fmt.Sprint(float64(i)/10))
+	}
+	for i := 0; i < dims[2]; i++ {
+		slack = append(slack, fmt.Sprint(2+i))
+	}
+	src := fmt.Sprintf("base: %s\nvary:\n  defaults.strands: [%s]\n  defaults.growth: [%s]\n  design.slack_m: [%s]\n",
+		base, strings.Join(strands, ", "), strings.Join(growth, ", "), strings.Join(slack, ", "))
+	path := filepath.Join(b.TempDir(), fmt.Sprintf("sweep-%d.yaml", n))
+	if err := os.WriteFile(path, []byte(src), 0o644); err != nil {
+		b.Fatal(err)
+	}
+	f, err := Load(path)
+	if err != nil {
+		b.Fatal(err)
+	}
+	return f
 }
 
 // BenchmarkSweep runs a whole sweep per iteration, writing every scenario folder and the
