@@ -1,0 +1,78 @@
+package route
+
+import (
+	"testing"
+
+	"spanwright/route/optimize"
+)
+
+// independentCents routes every demand of prob alone, each paying in full for the proposed
+// edges it uses: the plan a designer gets by routing link by link with no shared trench.
+func independentCents(t *testing.T, prob *optimize.Problem) int64 {
+	t.Helper()
+	var total int64
+	for _, d := range prob.Demands {
+		one := *prob
+		one.Demands = []optimize.Demand{d}
+		sol, err := optimize.Solve(&one, optimize.Settings{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		total += sol.TotalCents
+	}
+	return total
+}
+
+// TestSavingOverIndependentRouting compares the optimizer's plan with routing each link
+// alone (trench charged per link), on the demo campus at the demo prices and with trench at a
+// tenth of them. The optimizer must never cost more; the figures are logged for the README
+// (route/optimize measures the same on synthetic campuses).
+func TestSavingOverIndependentRouting(t *testing.T) {
+	t.Parallel()
+	cases := []struct {
+		name        string
+		site        func(t *testing.T) (*Site, *Plan)
+		trenchScale float64
+	}{
+		{"demo campus", func(t *testing.T) (*Site, *Plan) { return demoSite(t) }, 1},
+		{"demo campus, trench at a tenth of the demo price", func(t *testing.T) (*Site, *Plan) { return demoSite(t) }, 0.1},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			s, p := tc.site(t)
+			eng, err := Engine(p)
+			if err != nil {
+				t.Fatal(err)
+			}
+			cm, err := newCostModel(eng, p.Design)
+			if err != nil {
+				t.Fatal(err)
+			}
+			hub, err := s.Hub(p)
+			if err != nil {
+				t.Fatal(err)
+			}
+			links, errs := s.Links(p, hub)
+			if len(errs) > 0 {
+				t.Fatal(errs)
+			}
+			prob, _, err := s.problem(cm, links)
+			if err != nil {
+				t.Fatal(err)
+			}
+			for i := range prob.Edges {
+				prob.Edges[i].FixedCents = int64(float64(prob.Edges[i].FixedCents) * tc.trenchScale)
+			}
+			sol, err := optimize.Solve(prob, optimize.Settings{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			alone := independentCents(t, prob)
+			if sol.TotalCents > alone {
+				t.Errorf("%s: optimizer %d cents costs more than independent routing %d cents", tc.name, sol.TotalCents, alone)
+			}
+			t.Logf("%s: optimizer %.2f, independent %.2f, saving %.2f %%, %d proposed spans opened",
+				tc.name, float64(sol.TotalCents)/100, float64(alone)/100, 100*float64(alone-sol.TotalCents)/float64(alone), len(sol.Opened))
+		})
+	}
+}
