@@ -263,7 +263,7 @@ func buildMap(r *route.Result, opt Options, med map[string]mediumInfo) (mapView,
 			Title: s.ID + ": " + s.Type})
 	}
 	m.Scale = newScaleBar(p, opt)
-	m.NorthX, m.NorthY = num(p.widthPx-mapMarginPx+4), num(mapMarginPx+4)
+	m.NorthX, m.NorthY = num(p.widthPx-mapMarginPx), num(p.heightPx-bandPx-8)
 	return m, nil
 }
 
@@ -277,7 +277,7 @@ func newScaleBar(p *projection, opt Options) scaleBar {
 	targetPx := p.widthPx / 5
 	length := niceLength(targetPx / p.pxPerM / unitM) // in display units
 	w := length * unitM * p.pxPerM
-	x0, y0 := mapMarginPx, p.heightPx-mapMarginPx/2-6
+	x0, y0 := mapMarginPx, p.heightPx-bandPx/2-3
 	sb := scaleBar{X: num(x0), Y: num(y0), TotalW: num(w), BarHeight: "6",
 		ZeroX: num(x0), EndX: num(x0 + w), TextY: num(y0 - 4),
 		Label: group(fmt.Sprintf("%g", length)) + " " + opt.lengthUnit()}

@@ -170,7 +170,7 @@ type planView struct {
 	OverPct    string
 	IsOver     bool
 	HasBudget  bool
-	BudgetBar  struct{ TotalW, BudgetX, Class, LabelX, Anchor string }
+	BudgetBar  struct{ TotalW, BudgetX, Class, LabelX, Anchor, BudgetAnchor string }
 	Costs      []bar
 	CostsH     string
 	Media      []mediumRow
@@ -295,6 +295,12 @@ func planViewOf(r *route.Result, opt Options) (*planView, error) {
 		v.BudgetBar.LabelX, v.BudgetBar.Anchor = num(full*float64(s.TotalCents)/float64(top)+6), "start"
 		if float64(s.TotalCents)/float64(top) > 0.7 {
 			v.BudgetBar.LabelX, v.BudgetBar.Anchor = num(full*float64(s.TotalCents)/float64(top)-6), "end"
+		}
+		v.BudgetBar.BudgetAnchor = "middle"
+		if bx := full * float64(s.BudgetCents) / float64(top); bx < 80 {
+			v.BudgetBar.BudgetAnchor = "start"
+		} else if bx > full-20 {
+			v.BudgetBar.BudgetAnchor = "end"
 		}
 		v.BudgetBar.Class = "under"
 		if v.IsOver {

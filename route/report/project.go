@@ -46,8 +46,11 @@ func (b *bounds) add(lon, lat float64) {
 	b.minLat, b.maxLat = math.Min(b.minLat, lat), math.Max(b.maxLat, lat)
 }
 
+// bandPx is the band below the drawn area that holds the scale bar and the north arrow.
+const bandPx = 30.0
+
 // newProjection fits b into a drawing widthPx wide and at most maxHeightPx high, with
-// marginPx on every side.
+// marginPx on every side and a band of bandPx below.
 func newProjection(b bounds, widthPx, maxHeightPx, marginPx float64) *projection {
 	if !b.any {
 		b = bounds{any: true}
@@ -64,12 +67,12 @@ func newProjection(b bounds, widthPx, maxHeightPx, marginPx float64) *projection
 	p.extentYM = math.Max((b.maxLat-b.minLat)*p.mPerDegY, 1)
 	inner := widthPx - 2*marginPx
 	p.pxPerM = inner / p.extentXM
-	if h := p.extentYM * p.pxPerM; h > maxHeightPx-2*marginPx {
-		p.pxPerM = (maxHeightPx - 2*marginPx) / p.extentYM
+	if h := p.extentYM * p.pxPerM; h > maxHeightPx-2*marginPx-bandPx {
+		p.pxPerM = (maxHeightPx - 2*marginPx - bandPx) / p.extentYM
 	}
 	p.widthPx = widthPx
-	p.heightPx = math.Ceil(p.extentYM*p.pxPerM + 2*marginPx)
-	p.cx, p.cy = widthPx/2, p.heightPx/2
+	p.heightPx = math.Ceil(p.extentYM*p.pxPerM + 2*marginPx + bandPx)
+	p.cx, p.cy = widthPx/2, (p.heightPx-bandPx)/2
 	return p
 }
 

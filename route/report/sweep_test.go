@@ -1,0 +1,119 @@
+package report
+
+import (
+	"regexp"
+	"strings"
+	"testing"
+
+	"spanwright/route/sweep"
+)
+
+func margin(x float64) *float64 { return &x }
+
+// sweepRows is a small comparison: three ok scenarios of which two are Pareto-optimal
+// (cheapest; best margin), one ok without fibre, one infeasible, one failed, and ids and
+// values that hold markup.
+func sweepRows() []sweep.Row {
+	return []sweep.Row{
+		{Index: 0, ID: "cheap-1", Set: [][2]string{{"hub", "ADM"}}, Status: sweep.StatusOK, Currency: "USD",
+			TotalCents: 100_000_00, BudgetCents: 150_000_00, OverBudgetCents: -50_000_00, WorstMarginDB: margin(2.0), MediaMix: "os2:4"},
+		{Index: 1, ID: "safe-2", Set: [][2]string{{"hub", "LIB"}}, Status: sweep.StatusOK, Currency: "USD",
+			TotalCents: 120_000_00, BudgetCents: 150_000_00, OverBudgetCents: -30_000_00, WorstMarginDB: margin(4.5), MediaMix: "os2:4"},
+		{Index: 2, ID: "worse-3", Set: [][2]string{{"hub", "ENG"}}, Status: sweep.StatusOK, Currency: "USD",
+			TotalCents: 130_000_00, BudgetCents: 150_000_00, OverBudgetCents: -20_000_00, WorstMarginDB: margin(3.0), MediaMix: "om4:1 os2:3"},
+		{Index: 3, ID: "copper-4", Case: "<i>copper</i>", Status: sweep.StatusOK, Currency: "USD",
+			TotalCents: 140_000_00, BudgetCents: 150_000_00, OverBudgetCents: -10_000_00, MediaMix: "cat6a:4"},
+		{Index: 4, ID: "holes-5", Set: [][2]string{{"hub", `"><script>x()</script>`}}, Status: sweep.StatusInfeasible, Currency: "USD",
+			TotalCents: 90_000_00, InfeasibleLegs: 2, WorstMarginDB: margin(1.5)},
+		{Index: 5, ID: "bad-6", Case: "bad", Status: sweep.StatusFailed, Error: "hub: unknown building \"<NOWHERE>\""},
+	}
+}
+
+func TestSweepReport(t *testing.T) {
+	c := sweep.Judge(sweepRows(), []string{"hub"})
+	b, err := Sweep(c, SweepOptions{Title: "alternatives <1>.yaml"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	html := string(b)
+	// Pareto against the definition (cost lower, margin higher, no more missing diverse
+	// routes): cheap-1 and safe-2; copper-4 has no fibre, so no margin to lose, and counts
+	// as the best margin (sweep.Judge's rule): it is Pareto too.
+	pareto := map[string]bool{}
+	for _, j := range c.Rows {
+		if j.Pareto {
+			pareto[j.ID] = true
+		}
+	}
+	if len(pareto) != 3 || !pareto["cheap-1"] || !pareto["safe-2"] || !pareto["copper-4"] {
+		t.Fatalf("Pareto set %v, want cheap-1, safe-2 and copper-4", pareto)
+	}
+	points := regexp.MustCompile(`<circle [^>]*class="pt (pt-[a-z]+)" data-point="scenario"`).FindAllStringSubmatch(html, -1)
+	count := map[string]int{}
+	for _, p := range points {
+		count[p[1]]++
+	}
+	// Every planned scenario is a point (the failed one is not); Pareto points are marked.
+	if len(points) != 5 || count["pt-pareto"] != 3 || count["pt-infeasible"] != 1 || count["pt-ok"] != 1 {
+		t.Errorf("points %v, want 5: 3 Pareto, 1 infeasible, 1 other", count)
+	}
+	for _, want := range []string{"#0</text>", "#1</text>", "#3</text>", ">no fibre</text>"} {
+		if !strings.Contains(html, want) {
+			t.Errorf("scatter lacks %q", want)
+		}
+	}
+	if n := strings.Count(html, "<tr class=\""); n != 6 {
+		t.Errorf("%d table rows, want 6", n)
+	}
+	if n := strings.Count(html, "<script>"); n != 1 {
+		t.Errorf("%d scripts, want the one inline sorter", n)
+	}
+	for _, bad := range []string{"<script>x()", "<i>copper</i>", "<NOWHERE>", "alternatives <1>", "http:", "https:"} {
+		if strings.Contains(html, bad) {
+			t.Errorf("sweep report holds %q", bad)
+		}
+	}
+	for _, want := range []string{"&lt;i&gt;copper&lt;/i&gt;", "&#34;&gt;&lt;script&gt;x()&lt;/script&gt;", "&lt;NOWHERE&gt;",
+		`<a href="cheap-1/report.html">cheap-1</a>`, `data-v="10000000"`, "100,000.00", "@page { size: A3;"} {
+		if !strings.Contains(html, want) {
+			t.Errorf("sweep report lacks %q", want)
+		}
+	}
+	// The failed scenario has no report to link to.
+	if strings.Contains(html, `href="bad-6/`) {
+		t.Error("failed scenario linked")
+	}
+	again, _ := Sweep(sweep.Judge(sweepRows(), []string{"hub"}), SweepOptions{Title: "alternatives <1>.yaml"})
+	if string(again) != html {
+		t.Error("two renders differ")
+	}
+}
+
+func TestSweepReportEmpty(t *testing.T) {
+	rows := []sweep.Row{{Index: 0, ID: "bad-1", Status: sweep.StatusFailed, Error: "no"}}
+	b, err := Sweep(sweep.Judge(rows, nil), SweepOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(string(b), "No scenario was planned.") {
+		t.Error("empty plot not said")
+	}
+}
+
+func TestAxis(t *testing.T) {
+	lo, hi, ticks := axis([]float64{100000, 140000})
+	if lo >= 100000 || hi <= 140000 {
+		t.Errorf("range %g..%g does not pad 100000..140000", lo, hi)
+	}
+	if len(ticks) < 3 || len(ticks) > 11 {
+		t.Errorf("%d ticks", len(ticks))
+	}
+	for i := 1; i < len(ticks); i++ {
+		if d := ticks[i] - ticks[i-1]; d != ticks[1]-ticks[0] {
+			t.Errorf("uneven ticks %v", ticks)
+		}
+	}
+	if _, _, one := axis([]float64{2.25, 2.25}); len(one) < 2 {
+		t.Errorf("a single value gets ticks %v", one)
+	}
+}
