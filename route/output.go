@@ -401,11 +401,20 @@ func (r *Result) PrintSummary(w io.Writer, opt WriteOptions) error {
 		}
 	}
 	if len(s.MediaMix) > 0 {
+		links := map[string]map[string]bool{}
+		for _, l := range r.Legs {
+			if l.Feasible {
+				if links[l.Medium] == nil {
+					links[l.Medium] = map[string]bool{}
+				}
+				links[l.Medium][l.Link.ID] = true
+			}
+		}
 		var mix []string
 		for _, m := range sortedKeys(s.MediaMix) {
-			mix = append(mix, fmt.Sprintf("%s %d", m, s.MediaMix[m]))
+			mix = append(mix, fmt.Sprintf("%s %d (%d legs)", m, len(links[m]), s.MediaMix[m]))
 		}
-		fmt.Fprintf(w, "legs by medium: %s\n", strings.Join(mix, ", "))
+		fmt.Fprintf(w, "links by medium: %s\n", strings.Join(mix, ", "))
 	}
 	byCons := map[string]float64{}
 	for _, l := range r.Legs {
