@@ -3,7 +3,7 @@
 GO ?= go
 BIN := bin/spanwright
 
-.PHONY: build test demo golden bench fuzz clean
+.PHONY: build test demo golden bench fuzz e2e clean
 
 build:
 	$(GO) build -o $(BIN) ./cmd/spanwright
@@ -24,6 +24,13 @@ golden:
 # speed and memory figures (not run by make test)
 bench:
 	$(GO) test -run '^$$' -bench . -benchmem ./...
+
+# the HTML reports in a real browser (not part of make test): installs Debian's chromium
+# when it is missing, renders the demo's report.html and a sweep's compare.html headless to
+# PNG and PDF in testdata/e2e/out/, and fails on a blank, clipped or wrongly sized page.
+e2e:
+	test -x /usr/bin/chromium || (apt-get update && apt-get install -y chromium)
+	$(GO) test -count=1 -tags e2e -v ./testdata/e2e/
 
 # a minute of coverage-guided fuzzing of the GeoJSON reader
 fuzz:
