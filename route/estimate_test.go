@@ -717,3 +717,50 @@ func TestDesignValidation(t *testing.T) {
 		t.Errorf("design: got %+v (%v)", p.Design, err)
 	}
 }
+
+// TestCopperTakeoff: a copper leg terminates 4-pair cables (one per two strands) on the
+// buildings' copper patch panels and is certified per channel; it has no splice trays.
+func TestCopperTakeoff(t *testing.T) {
+	t.Parallel()
+	r, err := pullSolve(t, 100, 2, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, leg := legOf(t, r, "A-B")
+	cat := r.Engine.Catalog()
+	k := cat.Medium("cat6a").Construction("outdoor")
+	leg.Medium, leg.Construction, leg.Application = "cat6a", "outdoor", "1000BASE-T"
+	leg.Cable.fit(cat, media.Choice{Medium: "cat6a", Construction: "outdoor", Strands: (leg.StrandsCable + 1) / 2})
+	if leg.Cable.Cables != (leg.StrandsCable+1)/2 || leg.Cable.Size != k.Sizes[0] {
+		t.Fatalf("copper fit: %+v", leg.Cable)
+	}
+	r.Estimate = &Estimate{}
+	r.connectivity()
+	r.quantities()
+	b, err := r.Engine.PriceBook().Bill(r.Estimate.Quantities)
+	if err != nil {
+		t.Fatal(err)
+	}
+	cables := float64(leg.Cable.Cables)
+	for item, want := range map[string]float64{
+		"termination cat6a, per 4-pair cable end": 2 * cables,
+		"copper patch panel, 24 ports":            2, // one at A and one at B
+		"patch cord cat6a":                        2,
+		"transceiver 1000BASE-T":                  2,
+	} {
+		if got := bomQty(b, item); got != want {
+			t.Errorf("%s: got %v, want %v", item, got, want)
+		}
+	}
+	if l, ok := bomLine(b, "certify copper channels"); !ok || l.Work != cables {
+		t.Errorf("copper certification: got %+v", l)
+	}
+	if l, ok := bomLine(b, "cable cat6a outdoor, 4-pair"); !ok || l.Quantity != leg.Cable.LengthM*cables {
+		t.Errorf("copper cable: got %+v, want %v m", l, leg.Cable.LengthM*cables)
+	}
+	for _, c := range r.Estimate.Buildings {
+		if c.Building == "B" && (c.SpliceTrays != 0 || c.CopperCables != leg.Cable.Cables || c.FibreStrands != 0) {
+			t.Errorf("building B: %+v", c)
+		}
+	}
+}
