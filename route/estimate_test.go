@@ -8,6 +8,7 @@ import (
 	"fmt"
 	"math"
 	"os"
+	"os/exec"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -762,5 +763,61 @@ func TestCopperTakeoff(t *testing.T) {
 		if c.Building == "B" && (c.SpliceTrays != 0 || c.CopperCables != leg.Cable.Cables || c.FibreStrands != 0) {
 			t.Errorf("building B: %+v", c)
 		}
+	}
+}
+
+// TestBOMWorkbookOpenpyxl reads bom.xlsx with openpyxl (Debian package python3-openpyxl),
+// a reader written independently of excelize, and recomputes the total from the stored
+// quantities, unit prices and markup percentages with Python's decimal arithmetic.
+func TestBOMWorkbookOpenpyxl(t *testing.T) {
+	t.Parallel()
+	py := "/usr/bin/python3"
+	if err := exec.Command(py, "-c", "import openpyxl").Run(); err != nil {
+		if os.Getenv("CI") == "true" {
+			t.Fatalf("python3-openpyxl is needed in CI: %v", err)
+		}
+		t.Skip("python3-openpyxl not installed (apt-get install python3-openpyxl)")
+	}
+	r := demoResult(t)
+	files, err := r.Outputs(WriteOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	path := filepath.Join(t.TempDir(), "bom.xlsx")
+	if err := os.WriteFile(path, fileOf(t, files, "bom.xlsx"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	script := `import sys, openpyxl
+from decimal import Decimal, ROUND_HALF_UP
+wb = openpyxl.load_workbook(sys.argv[1])
+ws = wb["bill of materials"]
+cent = Decimal("0.01")
+def rnd(x): return x.quantize(cent, rounding=ROUND_HALF_UP)
+sub, pct, formulas = Decimal(0), {}, 0
+for row in ws.iter_rows(min_row=2):
+    a, d, e, f = row[0].value, row[3].value, row[4].value, row[5].value
+    if a in ("material", "labour", "construction", "optics"):
+        assert isinstance(d, (int, float)) and isinstance(e, (int, float)), (a, d, e)
+        assert f == "=ROUND(D%d*E%d,2)" % (row[0].row, row[0].row), f
+        sub += rnd(Decimal(repr(d)) * Decimal(repr(e)))
+        formulas += 1
+    elif a in ("contingency", "overhead", "tax"):
+        pct[a] = Decimal(repr(d))
+cont = rnd(sub * pct["contingency"] / 100)
+over = rnd(sub * pct["overhead"] / 100)
+tax = rnd((sub + cont + over) * pct["tax"] / 100)
+print(wb.sheetnames)
+print(formulas, int((sub + cont + over + tax) * 100))
+print(wb["summary"]["B21"].value)
+`
+	out, err := exec.Command(py, "-c", script, path).CombinedOutput()
+	if err != nil {
+		t.Fatalf("openpyxl: %v\n%s", err, out)
+	}
+	b := r.Estimate.BOM
+	want := fmt.Sprintf("['summary', 'links', 'bill of materials', 'pull sections', 'duct fill', 'loss budgets']\n%d %d\n='bill of materials'!F%d\n",
+		len(b.Lines), b.TotalCents, len(b.Lines)+1+1+len(b.Subtotal)+5)
+	if string(out) != want {
+		t.Errorf("openpyxl read:\n%s\nwant:\n%s", out, want)
 	}
 }
