@@ -95,6 +95,7 @@ type bar struct {
 
 type mediumRow struct {
 	Info  mediumInfo
+	Links int // links with a feasible leg of the medium
 	Legs  int
 	Route string
 	Cost  string
@@ -440,6 +441,7 @@ func costBars(r *route.Result) ([]bar, string) {
 
 func mediaRows(r *route.Result, opt Options, med map[string]mediumInfo, order []string) []mediumRow {
 	legs := map[string]int{}
+	links := map[string]map[string]bool{}
 	metres := map[string]float64{}
 	cost := map[string]int64{}
 	for _, l := range r.Legs {
@@ -447,12 +449,16 @@ func mediaRows(r *route.Result, opt Options, med map[string]mediumInfo, order []
 			continue
 		}
 		legs[l.Medium]++
+		if links[l.Medium] == nil {
+			links[l.Medium] = map[string]bool{}
+		}
+		links[l.Medium][l.Link.ID] = true
 		metres[l.Medium] += l.RouteM
 		cost[l.Medium] += l.Cost.TotalCents()
 	}
 	out := make([]mediumRow, 0, len(order))
 	for _, id := range order {
-		out = append(out, mediumRow{Info: med[id], Legs: legs[id], Route: opt.length(metres[id]), Cost: money(cost[id])})
+		out = append(out, mediumRow{Info: med[id], Links: len(links[id]), Legs: legs[id], Route: opt.length(metres[id]), Cost: money(cost[id])})
 	}
 	return out
 }
