@@ -1,0 +1,105 @@
+package sweep
+
+import (
+	"bytes"
+	"encoding/csv"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"testing"
+
+	"spanwright/route"
+)
+
+func hookRows() []Row {
+	m := func(x float64) *float64 { return &x }
+	return []Row{
+		{Index: 0, ID: "a-1", Status: StatusOK, Currency: "USD", TotalCents: 500, WorstMarginDB: m(2)},
+		{Index: 1, ID: "b-2", Status: StatusOK, Currency: "USD", TotalCents: 700, WorstMarginDB: m(4)},
+		{Index: 2, ID: "c-3", Status: StatusOK, Currency: "USD", TotalCents: 700, WorstMarginDB: m(3)},
+		{Index: 3, ID: "d-4", Status: StatusInfeasible, Currency: "USD", TotalCents: 100, InfeasibleLegs: 1},
+		{Index: 4, ID: "e-5", Status: StatusFailed, Error: "bad"},
+	}
+}
+
+// TestJudgeMatchesCompare checks that Judge gives the rank and Pareto flag compare.csv writes.
+func TestJudgeMatchesCompare(t *testing.T) {
+	rows := hookRows()
+	c := Judge(rows, nil)
+	files, err := Compare(rows, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var table [][]string
+	for _, f := range files {
+		if f.Name == CompareCSV {
+			table, err = csv.NewReader(bytes.NewReader(f.Data)).ReadAll()
+			if err != nil {
+				t.Fatal(err)
+			}
+		}
+	}
+	col := map[string]int{}
+	for i, h := range table[0] {
+		col[h] = i
+	}
+	for i, j := range c.Rows {
+		rec := table[i+1]
+		rank := ""
+		if j.Rank > 0 {
+			rank = strconv.Itoa(j.Rank)
+		}
+		if rec[col["cost_rank"]] != rank {
+			t.Errorf("%s: rank %q, compare.csv %q", j.ID, rank, rec[col["cost_rank"]])
+		}
+		if want := rec[col["pareto"]] == "yes"; j.Pareto != want {
+			t.Errorf("%s: pareto %v, compare.csv %q", j.ID, j.Pareto, rec[col["pareto"]])
+		}
+	}
+	// b-2 dominates c-3 (same cost, larger margin); a-1 is cheapest.
+	if !c.Rows[0].Pareto || !c.Rows[1].Pareto || c.Rows[2].Pareto || c.Rows[3].Pareto {
+		t.Errorf("pareto flags %v %v %v %v", c.Rows[0].Pareto, c.Rows[1].Pareto, c.Rows[2].Pareto, c.Rows[3].Pareto)
+	}
+	if c.Currency != "USD" {
+		t.Errorf("currency %q", c.Currency)
+	}
+}
+
+func TestCompareExtra(t *testing.T) {
+	dir := t.TempDir()
+	rows := hookRows()
+	data, err := encodeRows(rowsHeader{Format: RowsFormat, Sweep: "x", Scenarios: len(rows), Keys: []string{"hub"}}, rows)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(filepath.Join(dir, RowsFile), data, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	var seen *Comparison
+	paths, err := CompareExtra(dir, func(c *Comparison) ([]route.OutputFile, error) {
+		seen = c
+		return []route.OutputFile{{Name: "extra.txt", Data: []byte(strconv.Itoa(len(c.Rows)))}}, nil
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(paths) != 1 || filepath.Base(paths[0]) != "extra.txt" {
+		t.Fatalf("paths %v", paths)
+	}
+	if got, _ := os.ReadFile(paths[0]); string(got) != "5" {
+		t.Errorf("extra.txt holds %q", got)
+	}
+	if len(seen.Keys) != 1 || seen.Keys[0] != "hub" || seen.Rows[4].Error != "bad" {
+		t.Errorf("comparison %+v", seen)
+	}
+	// Rows missing, or no rows file: an error naming it, nothing written.
+	short, _ := encodeRows(rowsHeader{Format: RowsFormat, Sweep: "x", Scenarios: 6}, rows)
+	os.WriteFile(filepath.Join(dir, RowsFile), short, 0o644)
+	if _, err := CompareExtra(dir, nil); err == nil || !strings.Contains(err.Error(), "scenario 5 missing") {
+		t.Errorf("short rows: got %v", err)
+	}
+	if _, err := CompareExtra(t.TempDir(), nil); err == nil || !strings.Contains(err.Error(), RowsFile) {
+		t.Errorf("no rows file: got %v", err)
+	}
+}
