@@ -780,3 +780,164 @@ func pullRows(r *route.Result, opt Options) ([]pullRow, int) {
 	}
 	return out, over
 }
+
+// The pull and duct tables are long; their rows are written here rather than in the
+// template (an order of magnitude faster), every text through html/template's escaper.
+
+var esc = template.HTMLEscapeString
+
+// fillBar is a 100 px bar filled to w px, red when over; limitX, when not "", marks a limit.
+func fillBar(b *strings.Builder, w string, over bool, limitX string) {
+	cls := "f-ok"
+	if over {
+		cls = "f-over"
+	}
+	b.WriteString(`<svg width="100" height="10" aria-hidden="true"><rect x="0" y="1" width="100" height="8" class="f-bg"/><rect x="0" y="1" width="`)
+	b.WriteString(w)
+	b.WriteString(`" height="8" class="` + cls + `"/>`)
+	if limitX != "" {
+		b.WriteString(`<line x1="` + limitX + `" y1="0" x2="` + limitX + `" y2="10" class="f-limit"/>`)
+	}
+	b.WriteString(`</svg>`)
+}
+
+func td(b *strings.Builder, class, text string) {
+	if class == "" {
+		b.WriteString("<td>")
+	} else {
+		b.WriteString(`<td class="` + class + `">`)
+	}
+	b.WriteString(esc(text))
+	b.WriteString("</td>")
+}
+
+// HTML is the pull section's table row.
+func (p pullRow) HTML() template.HTML {
+	var b strings.Builder
+	b.Grow(640)
+	if p.Over {
+		b.WriteString(`<tr class="over">`)
+	} else {
+		b.WriteString("<tr>")
+	}
+	b.WriteString("<td><b>" + esc(p.Link) + `</b> <span class="small">` + esc(p.Leg) + "</span></td>")
+	td(&b, "n", strconv.Itoa(p.Seq))
+	td(&b, "", p.From+" → "+p.To)
+	td(&b, "n", p.Length)
+	td(&b, "n", p.Bends)
+	td(&b, "", p.Feed)
+	td(&b, "n", p.Tension)
+	td(&b, "n", p.Other)
+	td(&b, "n", p.Rated)
+	b.WriteString(`<td class="margin">`)
+	fillBar(&b, p.BarW, p.Over, "")
+	if p.Over {
+		b.WriteString(" <b>over</b>")
+	}
+	b.WriteString("</td>")
+	td(&b, "n", p.SWBP)
+	td(&b, "", p.Added)
+	b.WriteString(`<td class="small">` + esc(p.Spans))
+	if p.Reason != "" {
+		b.WriteString("<br><b>" + esc(p.Reason) + "</b>")
+	}
+	b.WriteString("</td></tr>\n")
+	return template.HTML(b.String())
+}
+
+// HTML is the duct's table row.
+func (d ductRow) HTML() template.HTML {
+	var b strings.Builder
+	b.Grow(480)
+	if d.Bad {
+		b.WriteString(`<tr class="over">`)
+	} else {
+		b.WriteString("<tr>")
+	}
+	td(&b, "", d.Span)
+	td(&b, "", d.Pathway)
+	td(&b, "", d.Duct)
+	td(&b, "n", d.DuctID)
+	td(&b, "", d.Cables)
+	b.WriteString(`<td class="margin">`)
+	fillBar(&b, d.BarW, d.Over, d.LimitX)
+	b.WriteString(" " + esc(d.Fill))
+	if d.Over {
+		b.WriteString(" <b>over</b>")
+	}
+	b.WriteString("</td>")
+	td(&b, "n", d.Allowed)
+	b.WriteString(`<td class="n">` + esc(d.Jam))
+	if d.JamRisk {
+		b.WriteString(" <b>jam risk</b>")
+	}
+	b.WriteString("</td></tr>\n")
+	return template.HTML(b.String())
+}
+
+// HTML is the leg's two table rows (figures, then reasons) in their own tbody; span is the
+// number of columns the reason row spans.
+func (l legRow) HTML(span int) template.HTML {
+	var b strings.Builder
+	b.Grow(2048)
+	if l.Feasible {
+		b.WriteString(`<tbody class="leg"><tr class="main">` + "\n")
+	} else {
+		b.WriteString(`<tbody class="leg infeasible"><tr class="main">` + "\n")
+	}
+	b.WriteString("<td><b>" + esc(l.Link) + `</b><br><span class="small">` + esc(l.Leg) + "</span></td>\n")
+	b.WriteString("<td>" + esc(l.From+" → "+l.To))
+	if l.FromName != "" || l.ToName != "" {
+		b.WriteString(`<br><span class="small">` + esc(l.FromName+" → "+l.ToName) + "</span>")
+	}
+	b.WriteString("</td>\n")
+	td(&b, "", l.Rate)
+	b.WriteString("\n<td>")
+	if l.HasMedium {
+		b.WriteString(`<svg class="sw" width="22" height="12" aria-hidden="true"><rect x="0.5" y="0.5" width="21" height="11" fill="` +
+			esc(l.Medium.Hex) + `" class="sw-box"/></svg> ` + esc(l.Medium.ID) + `<br><span class="small">` + esc(l.Medium.ColourLabel) + "</span>")
+	} else {
+		b.WriteString(`<span class="badge bad">infeasible</span>`)
+	}
+	b.WriteString("</td>\n<td>" + esc(l.Application))
+	if l.Construction != "" {
+		b.WriteString(`<br><span class="small">` + esc(l.Construction) + "</span>")
+	}
+	b.WriteString("</td>\n")
+	td(&b, "n", l.Strands)
+	b.WriteString("\n")
+	td(&b, "n", l.Route)
+	td(&b, "n", l.Lat)
+	td(&b, "n", l.Riser)
+	b.WriteString("\n")
+	for _, c := range l.Losses {
+		if c.Operating {
+			td(&b, "n op", c.Text)
+		} else {
+			td(&b, "n", c.Text)
+		}
+	}
+	b.WriteString("\n")
+	td(&b, "n", l.Limit)
+	b.WriteString("\n" + `<td class="margin">`)
+	if l.Bar != nil {
+		b.WriteString(`<svg width="100" height="10" aria-hidden="true"><rect x="0" y="1" width="` + l.Bar.LossW +
+			`" height="8" class="m-loss"/><rect x="` + l.Bar.LossW + `" y="1" width="` + l.Bar.MarginW +
+			`" height="8" class="m-` + l.Bar.Class + `"/></svg>`)
+	}
+	b.WriteString(" " + esc(l.Margin) + "</td>\n")
+	td(&b, "n", l.Cost)
+	b.WriteString("\n</tr>\n" + `<tr class="why"><td></td><td colspan="` + strconv.Itoa(span) + `"><span class="reason">`)
+	if !l.Feasible {
+		b.WriteString("<b>Infeasible:</b> ")
+	}
+	b.WriteString(esc(l.Reason) + "</span>")
+	if len(l.Rejected) > 0 {
+		b.WriteString(`<br><span class="small">Not chosen: ` + esc(strings.Join(l.Rejected, "; ")) + ".</span>")
+	}
+	if l.Pathways != "" {
+		b.WriteString(`<br><span class="small">Via ` + esc(l.Pathways) + "</span>")
+	}
+	b.WriteString("</td></tr></tbody>\n")
+	return template.HTML(b.String())
+}
