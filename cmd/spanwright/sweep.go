@@ -27,8 +27,9 @@ func sweepCommand() *cli.Command {
 		Usage:     "plan every alternative of a sweep file and compare them",
 		ArgsUsage: "SWEEP.yaml",
 		Description: "Plans the base plan of the sweep file once per scenario (the product of its vary\n" +
-			"axes, then each of its cases), writes each scenario's outputs to OUT/<scenario id>/\n" +
-			"and the comparison to OUT/compare.csv, compare.xlsx and compare.md.\n\n" +
+			"axes, then each of its cases), writes each scenario's outputs (report.html among them)\n" +
+			"to OUT/<scenario id>/ and the comparison to OUT/compare.csv, compare.xlsx, compare.md\n" +
+			"and compare.html (sortable table, cost-against-margin plot).\n\n" +
 			"With --shard i/n only the scenarios whose index mod n is i-1 are planned and their\n" +
 			"rows written to OUT/rows-i-of-n.jsonl; `spanwright merge` joins the shards.\n\n" +
 			"EXIT STATUS\n   0 every scenario planned with all legs feasible, 1 internal error or interrupted,\n" +
