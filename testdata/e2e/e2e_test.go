@@ -13,6 +13,7 @@ import (
 	"encoding/json"
 	"fmt"
 	"image/png"
+	"math"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -42,6 +43,67 @@ func chromium(t *testing.T) string {
 	}
 	t.Fatal("no chromium: `make e2e` installs Debian's chromium package (apt-get install -y chromium)")
 	return ""
+}
+
+// sortedByCost clicks the head of the total cost column twice in a copy of compare.html (a
+// script appended to the page, run by Chromium) and reads the sorted table back from the DOM:
+// the costs must descend (the page lists scenarios in index order, not by cost), blanks
+// (failed scenarios) last.
+func sortedByCost(t *testing.T, dir string, html []byte) {
+	t.Helper()
+	click := []byte(`<script>(function(){var hs=document.querySelectorAll("#compare th");` +
+		`for(var i=0;i<hs.length;i++){if(hs[i].textContent.indexOf("total cost")===0){hs[i].querySelector("button").click();hs[i].querySelector("button").click();}}})();</script></body>`)
+	page := filepath.Join(dir, "compare-sorted.html")
+	if err := os.WriteFile(page, bytes.Replace(html, []byte("</body>"), click, 1), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	ctx, cancel := context.WithTimeout(context.Background(), 2*time.Minute)
+	defer cancel()
+	cmd := exec.CommandContext(ctx, chromium(t), "--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run",
+		"--disable-background-networking", "--disable-component-update", "--disable-sync", "--user-data-dir="+t.TempDir(),
+		"--dump-dom", "file://"+page)
+	dom, err := cmd.Output()
+	if err != nil {
+		t.Fatalf("chromium --dump-dom: %v", err)
+	}
+	head := regexp.MustCompile(`<th(?: [^>]*)?>`).FindAllIndex(dom, -1)
+	col := -1
+	for i, h := range head {
+		if bytes.HasPrefix(dom[h[1]:], []byte(`<button type="button">total cost`)) {
+			col = i
+		}
+	}
+	if col < 0 {
+		t.Fatal("sorted page: no total cost column")
+	}
+	if !bytes.Contains(dom, []byte(`aria-sort="descending"`)) {
+		t.Error("sorted page: no column marked descending: the inline sorter did not run")
+	}
+	body := dom[bytes.Index(dom, []byte("<tbody>")):]
+	var costs []string
+	for _, tr := range regexp.MustCompile(`(?s)<tr[^>]*>(.*?)</tr>`).FindAllSubmatch(body, -1) {
+		cells := regexp.MustCompile(`<td data-v="([^"]*)"`).FindAllSubmatch(tr[1], -1)
+		if col < len(cells) {
+			costs = append(costs, string(cells[col][1]))
+		}
+	}
+	if len(costs) < 3 {
+		t.Fatalf("sorted page: %d rows", len(costs))
+	}
+	prev := math.Inf(1)
+	blank := false
+	for i, c := range costs {
+		if c == "" {
+			blank = true
+			continue
+		}
+		v, err := strconv.ParseFloat(c, 64)
+		if err != nil || blank || v > prev {
+			t.Fatalf("sorted page: costs %v not descending with blanks last (row %d)", costs, i)
+		}
+		prev = v
+	}
+	t.Logf("sorted by total cost, descending, in Chromium: %v", costs)
 }
 
 // browser runs headless Chromium on a local file with the flags that keep it off the
@@ -270,6 +332,7 @@ func TestSweepReport(t *testing.T) {
 			t.Errorf("compare.html links %s: %v", sc[1], err)
 		}
 	}
+	sortedByCost(t, dir, html)
 	out := outDir(t)
 	shot := filepath.Join(out, "sweep-report.png")
 	os.Remove(shot)
