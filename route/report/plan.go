@@ -247,7 +247,10 @@ func Extra(opt Options) func(*route.Result) ([]route.OutputFile, error) {
 }
 
 func planViewOf(r *route.Result, opt Options) (*planView, error) {
-	cat := r.Engine.Catalog()
+	cat := media.DefaultCatalog()
+	if r.Engine != nil {
+		cat = r.Engine.Catalog()
+	}
 	s := r.Summarize()
 	v := &planView{S: s, Unit: opt.lengthUnit(), Currency: r.Currency, Hub: r.Hub}
 	v.Title = "Backbone plan: " + s.Scenario
