@@ -5,9 +5,11 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"sort"
 
 	"github.com/urfave/cli/v2"
 
+	"spanwright/route/report"
 	"spanwright/route/sweep"
 )
 
@@ -17,7 +19,7 @@ func mergeCommand() *cli.Command {
 		Usage:     "join the output folders of a sharded sweep into one comparison",
 		ArgsUsage: "DIR...",
 		Description: "Reads the rows files (rows.jsonl, rows-i-of-n.jsonl) of every folder named and\n" +
-			"writes compare.csv, compare.xlsx, compare.md and rows.jsonl to --out, the same bytes\n" +
+			"writes compare.csv, compare.xlsx, compare.md, compare.html and rows.jsonl to --out, the same bytes\n" +
 			"as the unsharded sweep writes. Scenario folders stay where the shards wrote them.\n\n" +
 			"EXIT STATUS\n   0 every scenario planned with all legs feasible, 1 internal error,\n" +
 			"   2 the rows do not make one whole sweep (missing shards, different sweeps) or some\n" +
@@ -42,6 +44,12 @@ func runMerge(_ context.Context, dirs []string, out string, w io.Writer) error {
 	if err != nil {
 		return err
 	}
+	more, err := sweep.CompareExtra(out, report.SweepFiles(report.SweepOptions{}))
+	if err != nil {
+		return err
+	}
+	rep.Files = append(rep.Files, more...)
+	sort.Strings(rep.Files)
 	printReport(w, rep, sweep.Shard{})
 	return outcome(rep)
 }

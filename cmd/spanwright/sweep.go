@@ -6,7 +6,6 @@ import (
 	"fmt"
 	"io"
 	"os"
-	"path/filepath"
 	"runtime"
 	"sort"
 	"strings"
@@ -27,9 +26,11 @@ func sweepCommand() *cli.Command {
 		Usage:     "plan every alternative of a sweep file and compare them",
 		ArgsUsage: "SWEEP.yaml",
 		Description: "Plans the base plan of the sweep file once per scenario (the product of its vary\n" +
-			"axes, then each of its cases), writes each scenario's outputs (report.html among them)\n" +
-			"to OUT/<scenario id>/ and the comparison to OUT/compare.csv, compare.xlsx, compare.md\n" +
-			"and compare.html (sortable table, cost-against-margin plot).\n\n" +
+			"axes, then each of its cases), writes each scenario's outputs to OUT/<scenario id>/\n" +
+			"(plan.yaml, routes.geojson, links.csv, summary.json, bom.csv; with --full also bom.xlsx\n" +
+			"and report.html) and the comparison to OUT/compare.csv, compare.xlsx, compare.md and\n" +
+			"compare.html (sortable table, cost-against-margin plot). `spanwright plan` on a\n" +
+			"scenario's plan.yaml writes its full set later.\n\n" +
 			"With --shard i/n only the scenarios whose index mod n is i-1 are planned and their\n" +
 			"rows written to OUT/rows-i-of-n.jsonl; `spanwright merge` joins the shards.\n\n" +
 			"EXIT STATUS\n   0 every scenario planned with all legs feasible, 1 internal error or interrupted,\n" +
@@ -41,6 +42,7 @@ func sweepCommand() *cli.Command {
 			&cli.BoolFlag{Name: "resume", Usage: "skip scenarios whose outputs exist and whose inputs are unchanged"},
 			&cli.StringFlag{Name: "shard", Usage: "plan part `i/n` of the sweep only: the scenarios whose index mod n is i-1"},
 			&cli.BoolFlag{Name: "quiet", Usage: "print no progress on stderr"},
+			&cli.BoolFlag{Name: "full", Usage: "also write bom.xlsx and report.html in every scenario folder (slower)"},
 			unitsFlag,
 		},
 		Action: func(c *cli.Context) error {
@@ -59,6 +61,7 @@ type sweepOptions struct {
 	jobs   int
 	resume bool
 	quiet  bool
+	full   bool
 	shard  sweep.Shard
 	write  route.WriteOptions
 }
@@ -75,7 +78,8 @@ func sweepOpts(c *cli.Context) (sweepOptions, error) {
 		return sweepOptions{}, usageError{fmt.Errorf("--jobs: want at least 1, got %d", c.Int("jobs"))}
 	}
 	o := sweepOptions{file: c.Args().First(), out: c.Path("out"), jobs: c.Int("jobs"),
-		resume: c.Bool("resume"), quiet: c.Bool("quiet"), write: w}
+		resume: c.Bool("resume"), quiet: c.Bool("quiet"), full: c.Bool("full"), write: w}
+	o.write.SkipWorkbook = !o.full
 	if s := c.String("shard"); s != "" {
 		if o.shard, err = sweep.ParseShard(s); err != nil {
 			return sweepOptions{}, usageError{fmt.Errorf("--shard: %w", err)}
@@ -90,14 +94,17 @@ func runSweep(ctx context.Context, o sweepOptions, stdout, stderr io.Writer) err
 		return invalid{err}
 	}
 	prog := newProgress(stderr, o.quiet)
-	rep, err := sweep.Run(ctx, f, sweep.Options{Out: o.out, Jobs: o.jobs, Resume: o.resume, Shard: o.shard,
-		Write: o.write, Progress: prog.update, Extra: report.Extra(report.Options{Units: o.write.Units})})
+	so := sweep.Options{Out: o.out, Jobs: o.jobs, Resume: o.resume, Shard: o.shard, Write: o.write, Progress: prog.update}
+	if o.full {
+		so.Extra = report.Extra(report.Options{Units: o.write.Units})
+	}
+	rep, err := sweep.Run(ctx, f, so)
 	prog.finish()
 	if err != nil {
 		return err
 	}
 	if o.shard.Whole() {
-		more, err := sweep.CompareExtra(o.out, report.SweepFiles(report.SweepOptions{Title: filepath.Base(o.file)}))
+		more, err := sweep.CompareExtra(o.out, report.SweepFiles(report.SweepOptions{}))
 		if err != nil {
 			return err
 		}

@@ -52,7 +52,7 @@ func TestSweepCommand(t *testing.T) {
 	if code != exitInvalid || !strings.Contains(stdout, "sweep: 6 scenarios: 4 ok, 1 with infeasible legs, 1 failed") {
 		t.Errorf("merge: status %d, stdout %q, %s", code, stdout, msg)
 	}
-	for _, name := range []string{"compare.csv", "compare.md", "compare.xlsx", "rows.jsonl"} {
+	for _, name := range []string{"compare.csv", "compare.md", "compare.xlsx", "compare.html", "rows.jsonl"} {
 		a, err1 := os.ReadFile(filepath.Join(out, name))
 		b, err2 := os.ReadFile(filepath.Join(merged, name))
 		if err1 != nil || err2 != nil || !bytes.Equal(a, b) {
@@ -98,5 +98,39 @@ func TestSweepExitStatus(t *testing.T) {
 				t.Errorf("%s: got status %d, %q; want %d, %q", tc.name, code, msg, tc.code, tc.want)
 			}
 		})
+	}
+}
+
+func TestSweepFull(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		name string
+		args []string
+		want bool
+	}{{"lean by default", nil, false}, {"full", []string{"--full"}, true}} {
+		out := t.TempDir()
+		args := append([]string{"sweep", filepath.Join(sweepFixtures, "small.yaml"), "--out", out, "--quiet"}, tc.args...)
+		if _, msg, code := run(t, args...); code != exitInvalid {
+			t.Fatalf("%s: exit %d: %s", tc.name, code, msg)
+		}
+		dirs, _ := filepath.Glob(filepath.Join(out, "*", "summary.json"))
+		if len(dirs) == 0 {
+			t.Fatalf("%s: no scenario folders", tc.name)
+		}
+		for _, s := range dirs {
+			dir := filepath.Dir(s)
+			for _, name := range []string{"bom.xlsx", "report.html"} {
+				_, err := os.Stat(filepath.Join(dir, name))
+				if got := err == nil; got != tc.want {
+					t.Errorf("%s: %s in %s: got %v, want %v", tc.name, name, filepath.Base(dir), got, tc.want)
+				}
+			}
+			if _, err := os.Stat(filepath.Join(dir, "bom.csv")); err != nil {
+				t.Errorf("%s: bom.csv missing in %s", tc.name, filepath.Base(dir))
+			}
+		}
+		if _, err := os.Stat(filepath.Join(out, "compare.html")); err != nil {
+			t.Errorf("%s: compare.html missing", tc.name)
+		}
 	}
 }

@@ -166,7 +166,7 @@ func sweepRowOf(j *sweep.Judged, keys []string) sweepRow {
 	}
 	id := sweepCell{Text: j.ID, Sort: j.ID}
 	if planned {
-		id.Link = j.ID + "/" + FileName
+		id.Link = j.ID + "/" // the folder: it holds report.html only when the sweep ran with --full
 	}
 	row.Cells = append(row.Cells, intc(j.Index, true), id, text(j.Case))
 	for _, k := range keys {

@@ -74,7 +74,7 @@ func TestSweepReport(t *testing.T) {
 		}
 	}
 	for _, want := range []string{"&lt;i&gt;copper&lt;/i&gt;", "&#34;&gt;&lt;script&gt;x()&lt;/script&gt;", "&lt;NOWHERE&gt;",
-		`<a href="cheap-1/report.html">cheap-1</a>`, `data-v="10000000"`, "100,000.00", "@page { size: A3;"} {
+		`<a href="cheap-1/">cheap-1</a>`, `data-v="10000000"`, "100,000.00", "@page { size: A3;"} {
 		if !strings.Contains(html, want) {
 			t.Errorf("sweep report lacks %q", want)
 		}
