@@ -5,7 +5,11 @@ import (
 	"os"
 	"path/filepath"
 	"sort"
+	"sync/atomic"
 )
+
+// tmpSeq numbers temporary files so that concurrent writers in one process never collide.
+var tmpSeq atomic.Uint64
 
 // OutputFile is one file of a plan's output, rendered in memory before anything is written.
 type OutputFile struct {
@@ -41,20 +45,19 @@ func WriteFiles(dir string, files []OutputFile, protect []string) error {
 			cleanup()
 			return fmt.Errorf("output %s would overwrite an input; choose another --out folder", final)
 		}
-		if err := os.MkdirAll(filepath.Dir(final), 0o755); err != nil {
-			cleanup()
-			return fmt.Errorf("create output folder: %w", err)
+		if sub := filepath.Dir(final); sub != filepath.Clean(dir) {
+			if err := os.MkdirAll(sub, 0o755); err != nil {
+				cleanup()
+				return fmt.Errorf("create output folder: %w", err)
+			}
 		}
-		tmp, err := os.CreateTemp(filepath.Dir(final), "."+filepath.Base(f.Name)+".tmp-*")
+		tmpName := filepath.Join(filepath.Dir(final), fmt.Sprintf(".%s.tmp-%d-%d", filepath.Base(f.Name), os.Getpid(), tmpSeq.Add(1)))
+		tmp, err := os.OpenFile(tmpName, os.O_WRONLY|os.O_CREATE|os.O_EXCL, 0o644)
 		if err != nil {
 			cleanup()
 			return fmt.Errorf("write %s: %w", final, err)
 		}
 		done = append(done, pending{tmp.Name(), final})
-		if err := tmp.Chmod(0o644); err != nil {
-			cleanup()
-			return fmt.Errorf("write %s: %w", final, err)
-		}
 		// No fsync: the rename already guarantees that an interrupted run leaves each file
 		// whole or absent; syncing every file of every sweep scenario costs milliseconds each.
 		_, werr := tmp.Write(f.Data)

@@ -6,6 +6,7 @@ import (
 	"os"
 	"path/filepath"
 	"runtime"
+	"spanwright/route"
 	"strings"
 	"testing"
 )
@@ -49,9 +50,19 @@ func benchFile(b *testing.B, n int) *File {
 // BenchmarkSweep runs a whole sweep per iteration, writing every scenario folder and the
 // comparison; it reports scenarios per second and the largest live heap seen, which should
 // not grow with the number of scenarios.
+// BenchmarkSweep runs sweeps of the demo campus as `spanwright sweep` does by default (lean
+// scenario folders: no bom.xlsx) and, for comparison, with the workbook in every folder.
 func BenchmarkSweep(b *testing.B) {
-	for _, n := range []int{100, 1000} {
-		b.Run(fmt.Sprintf("scenarios_%d", n), func(b *testing.B) {
+	for _, bc := range []struct {
+		n    int
+		full bool
+	}{{100, false}, {1000, false}, {100, true}} {
+		name := fmt.Sprintf("scenarios_%d", bc.n)
+		if bc.full {
+			name += "_workbooks"
+		}
+		b.Run(name, func(b *testing.B) {
+			n := bc.n
 			f := benchFile(b, n)
 			if len(f.Scenarios()) != n {
 				b.Fatalf("got %d scenarios, want %d", len(f.Scenarios()), n)
@@ -61,12 +72,13 @@ func BenchmarkSweep(b *testing.B) {
 			var ms runtime.MemStats
 			for i := 0; i < b.N; i++ {
 				out := b.TempDir()
-				rep, err := Run(context.Background(), f, Options{Out: out, Progress: func(p Progress) {
-					if p.Done%50 == 0 {
-						runtime.ReadMemStats(&ms)
-						peak = max(peak, ms.HeapAlloc)
-					}
-				}})
+				rep, err := Run(context.Background(), f, Options{Out: out, Write: route.WriteOptions{SkipWorkbook: !bc.full},
+					Progress: func(p Progress) {
+						if p.Done%50 == 0 {
+							runtime.ReadMemStats(&ms)
+							peak = max(peak, ms.HeapAlloc)
+						}
+					}})
 				if err != nil {
 					b.Fatal(err)
 				}
