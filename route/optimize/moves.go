@@ -13,14 +13,44 @@ func (sv *solver) reroute(d int) bool {
 		return false
 	}
 	before := sv.key()
-	old := sv.remove(d)
-	sv.add(d, sv.best(d))
+	old, nb := sv.rebest(d)
+	sv.add(d, nb)
 	if sv.key().less(before) {
 		return true
 	}
 	sv.remove(d)
 	sv.add(d, old)
+	sv.flush()
 	return false
+}
+
+// rebest takes demand d out of the plan and returns its old choice and its best choice
+// against the rest. The last flushed packing must still hold d's cable on its old route: the
+// searches then see d's own place in the ducts of that route as free (see penalty).
+func (sv *solver) rebest(d int) (old, nb choice) {
+	old = sv.remove(d)
+	sv.markOwn(d, old)
+	nb = sv.best(d)
+	sv.ownSt++
+	return old, nb
+}
+
+// markOwn records choice c of demand d as the cable the last flushed packing holds for d.
+func (sv *solver) markOwn(d int, c choice) {
+	sv.ownSt++
+	if sv.ownSt == 0 {
+		clear(sv.own)
+		sv.ownSt = 1
+	}
+	if c.opt < 0 {
+		return
+	}
+	sv.ownArea = circleMM2(sv.od(d, c.opt))
+	for _, leg := range c.legs {
+		for _, h := range leg {
+			sv.own[h.Edge] = sv.ownSt
+		}
+	}
 }
 
 // keepOrRevert keeps the plan if it beats before, else puts ds back on their old choices.
@@ -32,6 +62,7 @@ func (sv *solver) keepOrRevert(ds []int32, olds []choice, before key) bool {
 		sv.remove(int(ds[i]))
 		sv.add(int(ds[i]), olds[i])
 	}
+	sv.flush() // swaps the saved packings back
 	return false
 }
 
@@ -59,8 +90,9 @@ func (sv *solver) closeMoves() bool {
 		olds := make([]choice, 0, len(users))
 		var done []int32
 		for _, d := range users {
-			olds = append(olds, sv.remove(int(d)))
-			sv.add(int(d), sv.best(int(d)))
+			old, nb := sv.rebest(int(d))
+			olds = append(olds, old)
+			sv.add(int(d), nb)
 			done = append(done, d)
 			if k := sv.key(); k.overfull == before.overfull && k.unrouted == before.unrouted &&
 				k.unmet == before.unmet && st.count[e] > 0 && k.total-before.total > sv.fixedE[e] {
@@ -216,6 +248,8 @@ func (sv *solver) estimate(d int) int64 {
 			sv.self[h.Edge] = sv.selfSt
 		}
 	}
+	sv.markOwn(d, c)
+	defer func() { sv.ownSt++ }()
 	dm := &sv.p.Demands[d]
 	w := sv.weightFor(d, c.opt)
 	cur := dm.Options[c.opt].FixedCents
@@ -293,8 +327,9 @@ func (sv *solver) openMoves() bool {
 		before := sv.key()
 		olds := make([]choice, len(c.affected))
 		for i, d := range c.affected {
-			olds[i] = sv.remove(int(d))
-			sv.add(int(d), sv.best(int(d)))
+			var nb choice
+			olds[i], nb = sv.rebest(int(d))
+			sv.add(int(d), nb)
 		}
 		for _, e := range c.edges {
 			sv.phantom[e] = false
@@ -452,8 +487,8 @@ func (sv *solver) kicks() {
 				sv.forbid[k.close] = true
 			}
 			for _, d := range all {
-				sv.remove(int(d))
-				sv.add(int(d), sv.best(int(d)))
+				_, nb := sv.rebest(int(d))
+				sv.add(int(d), nb)
 			}
 			for _, e := range k.open {
 				sv.phantom[e] = false

@@ -102,7 +102,12 @@ type solver struct {
 	odBuf  []float64
 	self   []uint32 // edges of the demand being estimated in place (see estimate)
 	selfSt uint32
-	plainW int64 // weight of the last pair found too long for its reach
+	// own marks the edges where the last flushed packing holds the cable of the demand being
+	// routed, of area ownArea (mm²); see markOwn and penalty.
+	own     []uint32
+	ownSt   uint32
+	ownArea float64
+	plainW  int64 // weight of the last pair found too long for its reach
 }
 
 func newSolver(p *Problem, opt Settings) *solver {
@@ -117,7 +122,7 @@ func newSolver(p *Problem, opt Settings) *solver {
 		cap:    capacity{edges: p.Edges, fits: p.Fits},
 		forbid: make([]bool, ne), phantom: make([]bool, ne), blk: make([]uint32, ne),
 		srch: newSearch[int64](net), rc: newRCSPScratch(net), ps: newPairScratch(net),
-		pen: make([]int64, ne), penOK: make([]bool, ne), penSt: make([]uint32, ne), self: make([]uint32, ne),
+		pen: make([]int64, ne), penOK: make([]bool, ne), penSt: make([]uint32, ne), self: make([]uint32, ne), own: make([]uint32, ne),
 	}
 	if sv.maxRounds == 0 {
 		sv.maxRounds = DefaultMaxRounds

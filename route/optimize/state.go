@@ -265,6 +265,14 @@ func (sv *solver) remove(d int) choice {
 // Pulling last is an approximation when d is not the last user in demand order (the packing
 // follows demand order): the search uses it to stay O(ducts) per edge, and add and remove
 // then account the exact duct count, so a move is judged on the exact cost.
+//
+// The default rule reads the packing as last flushed, which may still hold d's own cable (d
+// was just taken out to be rerouted, or estimate keeps it in). On the edges markOwn recorded,
+// a cable no wider than d's own takes its place and costs nothing, except that staying costs
+// the last duct when that duct was added and holds no more cable than d's (taking d out would
+// likely empty it, so leaving may save it). Without that rule every edge of d's current route
+// near capacity would look a duct dearer than it is, and the searches would leave good routes
+// for worse ones, and screen open moves on savings that are not there.
 func (sv *solver) penalty(d, o int, e int32, areaMM2 float64) (int64, bool) {
 	st := sv.st
 	if areaMM2 == 0 {
@@ -273,6 +281,15 @@ func (sv *solver) penalty(d, o int, e int32, areaMM2 float64) (int64, bool) {
 	if sv.cap.fits == nil {
 		var pen int64
 		switch {
+		case sv.own[e] == sv.ownSt && areaMM2 <= sv.ownArea+1e-9 && !st.over[e]:
+			// The flushed packing holds d's own cable here: a cable no wider takes its place.
+			// It costs the last duct when that duct was added and holds no more than d's cable
+			// (taking d out would likely empty it).
+			pk := &st.packs[e]
+			if n := len(pk.count); n > 0 && n > sv.p.Edges[e].Ducts && pk.used[n-1] <= sv.ownArea+1e-9 && !sv.length {
+				return sv.ductCent[e], true
+			}
+			return 0, true
 		case areaMM2 <= st.free[e]+1e-9:
 			return 0, true
 		case sv.p.Edges[e].AddDuctPerMCents > 0 && areaMM2 <= FillOneCable*st.packs[e].areaMM2+1e-9:
@@ -294,7 +311,9 @@ func (sv *solver) penalty(d, o int, e int32, areaMM2 float64) (int64, bool) {
 	avail := ed.Ducts + st.added[e]
 	ods := sv.odBuf[:0]
 	for _, u := range st.users[e] {
-		ods = append(ods, sv.od(int(u), st.ch[u].opt))
+		if int(u) != d { // estimate keeps d in the plan
+			ods = append(ods, sv.od(int(u), st.ch[u].opt))
+		}
 	}
 	ods = append(ods, sv.od(d, o))
 	sv.odBuf = ods
