@@ -193,10 +193,18 @@ func int32Key(es []int32) []byte {
 	return b
 }
 
-// saveBound returns an upper bound of what demand d could save by any reroute: its current
-// cost share (option, cable and labour, edges only it opened, ducts on its edges) less its
-// lower-bound cost. Diverse demands still without a pair get no bound (math.MaxInt64 / 4).
-func (sv *solver) saveBound(d int) int64 {
+// saveBound returns an upper bound of what demand d could save by any reroute once the
+// proposed edges open are opened, as the searches price it: its current cost share (option,
+// cable and labour, edges only it opened, the added ducts it likely holds alone, see
+// holdsLastDuct) less a lower bound of its cost after the opening.
+// Diverse demands still without a pair get no bound (math.MaxInt64 / 4).
+//
+// The lower bound is the plan tree's (bound.go) less the shortcut each opened edge offers
+// towards the anchor: with T the tree distances and w the edge's base weight, a path that
+// takes edge {a, b} from a to b saves at most σ = T(a) − w − T(b) over T, since every other
+// edge of the path costs at least the T difference of its ends. A pair's legs share no edge,
+// so a pair costs at least 2·T(s) − Σσ.
+func (sv *solver) saveBound(d int, open []int32) int64 {
 	st := sv.st
 	c := st.ch[d]
 	dm := &sv.p.Demands[d]
@@ -204,26 +212,41 @@ func (sv *solver) saveBound(d int) int64 {
 		return math.MaxInt64 / 4
 	}
 	cur := c.varCost + dm.Options[c.opt].FixedCents
+	area := circleMM2(sv.od(d, c.opt))
 	for _, leg := range c.legs {
 		for _, h := range leg {
 			if sv.fixedE[h.Edge] > 0 && st.count[h.Edge] == 1 {
 				cur += sv.fixedE[h.Edge]
 			}
-			if sv.limited[h.Edge] && st.added[h.Edge] > 0 {
+			if sv.limited[h.Edge] && st.added[h.Edge] > 0 && sv.holdsLastDuct(int32(h.Edge), area) {
 				cur += sv.ductCent[h.Edge]
 			}
 		}
 	}
 	lb := int64(math.MaxInt64)
 	for o := range dm.Options {
-		t := sv.costTree(sv.to[d], sv.optProf[d][o]).dist[sv.from[d]]
+		prof := sv.optProf[d][o]
+		b := sv.bound(sv.to[d], prof)
+		t := b.t.dist[sv.from[d]]
 		if t < 0 {
 			continue
 		}
 		if dm.Diverse {
 			t *= 2
 		}
-		lb = min(lb, t+dm.Options[o].FixedCents)
+		base := sv.profBase[prof]
+		for _, e := range open {
+			if base[e] < 0 {
+				continue
+			}
+			ed := &sv.p.Edges[e]
+			ta, tb := b.t.dist[ed.From], b.t.dist[ed.To]
+			if ta < 0 || tb < 0 {
+				continue
+			}
+			t -= max(0, ta-base[e]-tb, tb-base[e]-ta)
+		}
+		lb = min(lb, max(t, 0)+dm.Options[o].FixedCents)
 	}
 	return max(0, cur-lb)
 }
@@ -279,8 +302,9 @@ func (sv *solver) estimate(d int) int64 {
 }
 
 // openMoves tries opening each candidate run. A candidate whose affected demands could not
-// together save the FixedCents of its unopened edges (by saveBound) is skipped, and a move
-// that failed is not tried again until an affected demand changes route.
+// together save the FixedCents of its unopened edges (by saveBound) is skipped; so is one
+// whose estimated savings, with the bounds of the demands not yet estimated, fall short. A
+// move that failed is not tried again until an affected demand changes route.
 func (sv *solver) openMoves() bool {
 	changed := false
 	for _, c := range sv.openCandidates() {
@@ -297,10 +321,14 @@ func (sv *solver) openMoves() bool {
 			continue
 		}
 		var bound int64
+		bounds := sv.bounds[:0]
 		for _, d := range c.affected {
-			bound += sv.saveBound(int(d))
+			b := sv.saveBound(int(d), c.edges)
+			bounds = append(bounds, b)
+			bound += b
 			sig = mix(sig, st.sig[d])
 		}
+		sv.bounds = bounds
 		if bound <= openCost {
 			continue
 		}
@@ -309,17 +337,34 @@ func (sv *solver) openMoves() bool {
 			continue
 		}
 		for _, e := range c.edges {
-			sv.phantom[e] = true
+			sv.setPhantom(e, true)
 		}
+		// Estimate the demands that may save most first, so that either test ends early.
+		ord := sv.ord[:0]
+		for i := range c.affected {
+			ord = append(ord, int32(i))
+		}
+		slices.SortFunc(ord, func(a, b int32) int {
+			if bounds[a] != bounds[b] {
+				if bounds[a] > bounds[b] {
+					return -1
+				}
+				return 1
+			}
+			return int(a - b)
+		})
+		sv.ord = ord
 		var gain int64
-		for _, d := range c.affected {
-			if gain += sv.estimate(int(d)); gain > openCost {
+		for _, i := range ord {
+			gain += sv.estimate(int(c.affected[i]))
+			bound -= bounds[i]
+			if gain > openCost || gain+bound <= openCost {
 				break
 			}
 		}
 		if gain <= openCost {
 			for _, e := range c.edges {
-				sv.phantom[e] = false
+				sv.setPhantom(e, false)
 			}
 			sv.failedOpen[k] = sig
 			continue
@@ -332,7 +377,7 @@ func (sv *solver) openMoves() bool {
 			sv.add(int(d), nb)
 		}
 		for _, e := range c.edges {
-			sv.phantom[e] = false
+			sv.setPhantom(e, false)
 		}
 		if sv.keepOrRevert(c.affected, olds, before) {
 			changed = true
@@ -349,6 +394,7 @@ func (sv *solver) improve() int {
 	moves := !sv.length && len(sv.proposed) > 0
 	for rounds < sv.maxRounds {
 		rounds++
+		sv.roundNo++
 		changed := false
 		for d := range sv.p.Demands {
 			if sv.reroute(d) {
@@ -373,14 +419,15 @@ func (sv *solver) improve() int {
 // start routes every demand in order; with open, every proposed edge is free in this pass.
 func (sv *solver) start(open bool) {
 	sv.st = newState(sv)
+	sv.recount()
 	for _, e := range sv.proposed {
-		sv.phantom[e] = open
+		sv.setPhantom(e, open)
 	}
 	for d := range sv.p.Demands {
 		sv.place(d)
 	}
 	for _, e := range sv.proposed {
-		sv.phantom[e] = false
+		sv.setPhantom(e, false)
 	}
 }
 
@@ -429,6 +476,7 @@ func (sv *solver) run() {
 	sv.rounds += sv.improve()
 	if !sv.key().less(first.key()) {
 		sv.st = first
+		sv.recount()
 	}
 	if len(sv.p.Demands)*len(sv.proposed) <= maxKickWork {
 		sv.kicks()
@@ -445,6 +493,7 @@ const maxKickWork = 4096
 // restore rebuilds the state from saved choices.
 func (sv *solver) restore(saved []choice) {
 	sv.st = newState(sv)
+	sv.recount()
 	for d, c := range saved {
 		sv.add(d, c)
 	}
@@ -481,7 +530,7 @@ func (sv *solver) kicks() {
 			before := sv.key()
 			saved := slices.Clone(sv.st.ch)
 			for _, e := range k.open {
-				sv.phantom[e] = true
+				sv.setPhantom(e, true)
 			}
 			if k.close >= 0 {
 				sv.forbid[k.close] = true
@@ -491,7 +540,7 @@ func (sv *solver) kicks() {
 				sv.add(int(d), nb)
 			}
 			for _, e := range k.open {
-				sv.phantom[e] = false
+				sv.setPhantom(e, false)
 			}
 			if k.close >= 0 {
 				sv.improve()

@@ -46,7 +46,7 @@ func (sv *solver) pair(d, o int, mix bool) (legs [2][]Hop, weight int64, ok, too
 		return legs, weight, false, false
 	}
 	w := sv.weightFor(d, o)
-	hc := treeH(sv.costTree(t, prof))
+	hc := treeH(sv.bound(t, prof).t)
 	try := func(wt func(e int32) (int64, bool), h heuristic[int64]) (ratio float64) {
 		cand, found := sv.groupPair(s, t, wt, h)
 		if !found {

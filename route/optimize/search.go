@@ -180,9 +180,17 @@ type tree struct {
 
 // buildTree runs Dijkstra from root over w and keeps the result.
 func buildTree(s *search[int64], root int, w func(e int32) (int64, bool)) *tree {
+	return buildTreeInto(nil, s, root, w)
+}
+
+// buildTreeInto is buildTree storing the result in t's arrays (a new tree when t is nil).
+func buildTreeInto(t *tree, s *search[int64], root int, w func(e int32) (int64, bool)) *tree {
 	s.run(root, -1, w, nil)
 	n := s.net.nodes
-	t := &tree{root: root, dist: make([]int64, n), lenMM: make([]int64, n), pred: make([]int32, n)}
+	if t == nil {
+		t = &tree{dist: make([]int64, n), lenMM: make([]int64, n), pred: make([]int32, n)}
+	}
+	t.root = root
 	for v := 0; v < n; v++ {
 		if s.reached(v) {
 			t.dist[v], t.lenMM[v], t.pred[v] = s.dist[v], s.lenMM[v], s.pred[v]

@@ -78,6 +78,11 @@ type solver struct {
 	proposed []int32
 
 	costTrees map[[2]int]*tree // (anchor, profile)
+	planTrees map[[2]int]*planTree
+	planList  []*planTree // planTrees in creation order
+	propIdx   []int32     // edge → index into proposed, -1 for other edges
+	nPhantom  int         // phantom edges
+	roundNo   int         // local search rounds begun, for rebuilding loose plan trees
 
 	failedClose map[int32]uint64  // edge → signature of its users when closing it failed
 	failedOpen  map[string]uint64 // candidate → signature of its demands when opening failed
@@ -107,7 +112,9 @@ type solver struct {
 	own     []uint32
 	ownSt   uint32
 	ownArea float64
-	plainW  int64 // weight of the last pair found too long for its reach
+	bounds  []int64 // openMoves' saving bounds per affected demand
+	ord     []int32 // openMoves' estimate order
+	plainW  int64   // weight of the last pair found too long for its reach
 }
 
 func newSolver(p *Problem, opt Settings) *solver {
@@ -117,7 +124,7 @@ func newSolver(p *Problem, opt Settings) *solver {
 		p: p, net: net, length: opt.Objective == ObjectiveLength, maxRounds: opt.MaxRounds,
 		lenClass: map[uint64]int{}, fixedE: make([]int64, ne), limited: make([]bool, ne), tracked: make([]bool, ne),
 		ductCent: make([]int64, ne), groups: map[int][]int32{},
-		costTrees: map[[2]int]*tree{}, lenTrees: map[[2]int]*tree{}, comps: map[uint64][]int{},
+		costTrees: map[[2]int]*tree{}, planTrees: map[[2]int]*planTree{}, propIdx: make([]int32, ne), lenTrees: map[[2]int]*tree{}, comps: map[uint64][]int{},
 		failedClose: map[int32]uint64{}, failedOpen: map[string]uint64{},
 		cap:    capacity{edges: p.Edges, fits: p.Fits},
 		forbid: make([]bool, ne), phantom: make([]bool, ne), blk: make([]uint32, ne),
@@ -129,9 +136,11 @@ func newSolver(p *Problem, opt Settings) *solver {
 	}
 	for i := range p.Edges {
 		e := &p.Edges[i]
+		sv.propIdx[i] = -1
 		if e.Proposed {
 			sv.tracked[i] = true
 			if p.AllowNew {
+				sv.propIdx[i] = int32(len(sv.proposed))
 				sv.proposed = append(sv.proposed, int32(i))
 				if !sv.length {
 					sv.fixedE[i] = e.FixedCents
@@ -282,18 +291,19 @@ func (sv *solver) weightFor(d, o int) func(e int32) (int64, bool) {
 func (sv *solver) route(d, o int) ([]Hop, int64, bool) {
 	s, t := sv.from[d], sv.to[d]
 	prof := sv.optProf[d][o]
-	tr := sv.costTree(t, prof)
+	bd := sv.bound(t, prof)
+	tr := bd.t
 	limit := sv.reach[d][o]
 	if lt := sv.lenTree(t, sv.profiles[prof].exclude); tr.dist[s] < 0 || lt.dist[s] > limit {
 		return nil, 0, false
 	}
 	w := sv.weightFor(d, o)
 	base := sv.profBase[prof]
-	// The lower-bound tree path is optimal when every edge on it costs only its base weight.
+	// The lower-bound tree path is optimal when every edge on it costs what the tree charged.
 	hops := tr.pathFrom(sv.net, s)
 	exact := true
 	for _, h := range hops {
-		if c, ok := w(int32(h.Edge)); !ok || c != base[h.Edge] {
+		if c, ok := w(int32(h.Edge)); !ok || c != sv.treeWeight(bd, base, int32(h.Edge)) {
 			exact = false
 			break
 		}
@@ -361,7 +371,7 @@ func (sv *solver) best(d int) choice {
 	}
 	order := make([]lbo, 0, len(dm.Options))
 	for o := range dm.Options {
-		lb := sv.costTree(sv.to[d], sv.optProf[d][o]).dist[sv.from[d]]
+		lb := sv.bound(sv.to[d], sv.optProf[d][o]).t.dist[sv.from[d]]
 		if lb < 0 {
 			continue
 		}

@@ -211,6 +211,9 @@ func (sv *solver) add(d int, c choice) {
 			st.count[e]++
 			if st.count[e] == 1 {
 				st.total += sv.fixedE[e]
+				if sv.fixedE[e] > 0 && !sv.phantom[e] {
+					sv.freeChanged(int32(e), true)
+				}
 			}
 			if sv.tracked[e] {
 				i, _ := slices.BinarySearch(st.users[e], int32(d))
@@ -236,6 +239,9 @@ func (sv *solver) remove(d int) choice {
 			st.count[e]--
 			if st.count[e] == 0 {
 				st.total -= sv.fixedE[e]
+				if sv.fixedE[e] > 0 && !sv.phantom[e] {
+					sv.freeChanged(int32(e), false)
+				}
 			}
 			if sv.tracked[e] {
 				i, found := slices.BinarySearch(st.users[e], int32(d))
@@ -258,6 +264,14 @@ func (sv *solver) remove(d int) choice {
 	st.unrouted++
 	st.ch[d] = choice{opt: -1}
 	return c
+}
+
+// holdsLastDuct reports whether taking a cable of area areaMM2 out of limited edge e would
+// likely save a duct: the last duct of the flushed packing was added and holds no more cable.
+func (sv *solver) holdsLastDuct(e int32, areaMM2 float64) bool {
+	pk := &sv.st.packs[e]
+	n := len(pk.count)
+	return n > 0 && n > sv.p.Edges[e].Ducts && pk.used[n-1] <= areaMM2+1e-9
 }
 
 // penalty returns the price of the ducts demand d's cable (option o) would add to edge e if it
@@ -285,8 +299,7 @@ func (sv *solver) penalty(d, o int, e int32, areaMM2 float64) (int64, bool) {
 			// The flushed packing holds d's own cable here: a cable no wider takes its place.
 			// It costs the last duct when that duct was added and holds no more than d's cable
 			// (taking d out would likely empty it).
-			pk := &st.packs[e]
-			if n := len(pk.count); n > 0 && n > sv.p.Edges[e].Ducts && pk.used[n-1] <= sv.ownArea+1e-9 && !sv.length {
+			if sv.holdsLastDuct(e, sv.ownArea) && !sv.length {
 				return sv.ductCent[e], true
 			}
 			return 0, true

@@ -1,0 +1,134 @@
+package optimize
+
+// Lower-bound trees of the current plan. The trees of costTree price every proposed edge at
+// its base weight only, as if it were open: they bound every plan, but on a campus where few
+// trenches are opened they are loose by a whole FixedCents wherever a proposed edge is
+// cheapest, so a search that must avoid the edge explores every node whose detour costs less
+// than the trench. A plan tree also charges FixedCents on each proposed edge that was neither
+// opened nor phantom when it was built. It stays a lower bound of the searches' weights as long
+// as no edge charged in it has become free since (an edge that closed only makes it looser),
+// which the solver tracks with two counters per tree as edges open, close and turn phantom;
+// a tree is rebuilt when it would no longer bound (and not while a move holds phantom edges,
+// when the plain tree serves), and when it has become loose, once per local search round.
+
+// planTree is a lower-bound tree over the current plan; see the file comment.
+type planTree struct {
+	t      *tree
+	freeAt []bool // per proposed edge (index into solver.proposed): free when built
+	bad    int    // proposed edges free now but charged in the tree
+	loose  int    // proposed edges free in the tree but charged now
+	round  int    // solver.roundNo when built
+	anchor int
+	prof   int
+}
+
+// bounder is a lower-bound tree with the weights it was built on.
+type bounder struct {
+	t  *tree
+	pt *planTree // nil for the plain tree of costTree
+}
+
+// weight returns the weight the tree gave edge e, whose base weight is base[e].
+func (sv *solver) treeWeight(b bounder, base []int64, e int32) int64 {
+	w := base[e]
+	if b.pt != nil {
+		if pi := sv.propIdx[e]; pi >= 0 && !b.pt.freeAt[pi] {
+			w += sv.fixedE[e]
+		}
+	}
+	return w
+}
+
+// freeNow reports whether proposed edge e costs no FixedCents to the searches.
+func (sv *solver) freeNow(e int32) bool { return sv.st.count[e] > 0 || sv.phantom[e] }
+
+// freeChanged updates the plan trees' counters after proposed edge e became free or charged.
+func (sv *solver) freeChanged(e int32, free bool) {
+	pi := sv.propIdx[e]
+	if pi < 0 {
+		return
+	}
+	for _, pt := range sv.planList {
+		switch {
+		case free && !pt.freeAt[pi]:
+			pt.bad++
+		case free:
+			pt.loose--
+		case !pt.freeAt[pi]:
+			pt.bad--
+		default:
+			pt.loose++
+		}
+	}
+}
+
+// setPhantom marks proposed edge e phantom (free for the searches) or not.
+func (sv *solver) setPhantom(e int32, on bool) {
+	if sv.phantom[e] == on {
+		return
+	}
+	if on {
+		sv.nPhantom++
+	} else {
+		sv.nPhantom--
+	}
+	if sv.st.count[e] == 0 {
+		sv.phantom[e] = on
+		sv.freeChanged(e, on)
+		return
+	}
+	sv.phantom[e] = on
+}
+
+// recount recomputes the plan trees' counters, after the state was replaced.
+func (sv *solver) recount() {
+	for _, pt := range sv.planList {
+		pt.bad, pt.loose = 0, 0
+		for pi, e := range sv.proposed {
+			switch f := sv.freeNow(e); {
+			case f && !pt.freeAt[pi]:
+				pt.bad++
+			case !f && pt.freeAt[pi]:
+				pt.loose++
+			}
+		}
+	}
+}
+
+// bound returns the tightest valid lower-bound tree for (anchor, profile): the plan tree,
+// rebuilt if needed, or the plain tree while phantom edges make a rebuild short-lived.
+func (sv *solver) bound(anchor, prof int) bounder {
+	if sv.length || len(sv.proposed) == 0 {
+		return bounder{t: sv.costTree(anchor, prof)}
+	}
+	k := [2]int{anchor, prof}
+	pt := sv.planTrees[k]
+	if pt != nil && pt.bad == 0 && (pt.loose == 0 || pt.round == sv.roundNo || sv.nPhantom > 0) {
+		return bounder{t: pt.t, pt: pt}
+	}
+	if sv.nPhantom > 0 {
+		return bounder{t: sv.costTree(anchor, prof)}
+	}
+	if pt == nil {
+		pt = &planTree{freeAt: make([]bool, len(sv.proposed)), anchor: anchor, prof: prof}
+		sv.planTrees[k] = pt
+		sv.planList = append(sv.planList, pt)
+	}
+	for pi, e := range sv.proposed {
+		pt.freeAt[pi] = sv.freeNow(e)
+	}
+	pt.bad, pt.loose, pt.round = 0, 0, sv.roundNo
+	base := sv.profBase[prof]
+	buf := pt.t
+	pt.t = buildTreeInto(buf, sv.srch, anchor, func(e int32) (int64, bool) {
+		b := base[e]
+		if b < 0 {
+			return 0, false
+		}
+		if pi := sv.propIdx[e]; pi >= 0 && !pt.freeAt[pi] {
+			b += sv.fixedE[e]
+		}
+		return b, true
+	})
+	return bounder{t: pt.t, pt: pt}
+}
