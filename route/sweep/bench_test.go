@@ -6,6 +6,7 @@ import (
 	"os"
 	"path/filepath"
 	"runtime"
+	"runtime/debug"
 	"spanwright/route"
 	"strings"
 	"testing"
@@ -52,7 +53,9 @@ func benchFile(b *testing.B, n int) *File {
 // not grow with the number of scenarios.
 // BenchmarkSweep runs sweeps of the demo campus as `spanwright sweep` does by default (lean
 // scenario folders: no bom.xlsx) and, for comparison, with the workbook in every folder.
+// The garbage collector runs at GOGC 400, as `spanwright sweep` sets it.
 func BenchmarkSweep(b *testing.B) {
+	defer debug.SetGCPercent(debug.SetGCPercent(400))
 	for _, bc := range []struct {
 		n    int
 		full bool
