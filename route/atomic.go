@@ -24,11 +24,16 @@ func WriteFiles(dir string, files []OutputFile, protect []string) error {
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return fmt.Errorf("create output folder: %w", err)
 	}
+	wd, _ := os.Getwd() // once: filepath.Abs asks the system on every call
+	abs := func(p string) string {
+		if filepath.IsAbs(p) || wd == "" {
+			return filepath.Clean(p)
+		}
+		return filepath.Join(wd, p)
+	}
 	guard := map[string]bool{}
 	for _, p := range protect {
-		if abs, err := filepath.Abs(p); err == nil {
-			guard[abs] = true
-		}
+		guard[abs(p)] = true
 	}
 	sorted := append([]OutputFile(nil), files...)
 	sort.Slice(sorted, func(i, j int) bool { return sorted[i].Name < sorted[j].Name })
@@ -41,7 +46,7 @@ func WriteFiles(dir string, files []OutputFile, protect []string) error {
 	}
 	for _, f := range sorted {
 		final := filepath.Join(dir, f.Name)
-		if abs, err := filepath.Abs(final); err == nil && guard[abs] {
+		if guard[abs(final)] {
 			cleanup()
 			return fmt.Errorf("output %s would overwrite an input; choose another --out folder", final)
 		}
@@ -75,6 +80,26 @@ func WriteFiles(dir string, files []OutputFile, protect []string) error {
 				os.Remove(q.tmp)
 			}
 			return fmt.Errorf("write %s: %w", p.final, err)
+		}
+	}
+	return nil
+}
+
+// WriteFresh writes files into dir, a new folder no one else sees until the caller renames it
+// into place (as a sweep publishes a scenario folder): the folder's rename is what makes the
+// set appear whole, so the files go straight to their names.
+func WriteFresh(dir string, files []OutputFile) error {
+	sorted := append([]OutputFile(nil), files...)
+	sort.Slice(sorted, func(i, j int) bool { return sorted[i].Name < sorted[j].Name })
+	for _, f := range sorted {
+		name := filepath.Join(dir, f.Name)
+		if sub := filepath.Dir(name); sub != filepath.Clean(dir) {
+			if err := os.MkdirAll(sub, 0o755); err != nil {
+				return fmt.Errorf("create output folder: %w", err)
+			}
+		}
+		if err := os.WriteFile(name, f.Data, 0o644); err != nil {
+			return fmt.Errorf("write %s: %w", name, err)
 		}
 	}
 	return nil

@@ -521,7 +521,7 @@ func (r *runner) publish(id string, files []route.OutputFile) error {
 		os.RemoveAll(tmp)
 		return fmt.Errorf("scenario %s: %w", id, err)
 	}
-	if err := route.WriteFiles(tmp, files, r.protect); err != nil {
+	if err := route.WriteFresh(tmp, files); err != nil {
 		os.RemoveAll(tmp)
 		return fmt.Errorf("scenario %s: %w", id, err)
 	}
