@@ -13,14 +13,41 @@ func (sv *solver) reroute(d int) bool {
 		return false
 	}
 	before := sv.key()
+	memo := !sv.length && sv.st.ch[d].opt >= 0
+	if memo && sv.memoHolds(d) {
+		return false
+	}
+	var stay int64
+	if memo {
+		stay, memo = sv.stayWeight(d, sv.st.ch[d])
+	}
+	clock, sig := sv.clock, sv.st.sig[d]
+	if memo {
+		sv.startRecord()
+	}
 	old, nb := sv.rebest(d)
+	sv.rec = false
+	if nb.opt == old.opt && choiceSig(nb) == sig {
+		// The same choice again: nothing to try.
+		sv.add(d, old)
+		sv.flush()
+		sv.discard()
+		sv.memos[d].ok = false
+		if memo {
+			sv.remember(d, clock, sig, stay)
+		}
+		return false
+	}
+	sv.memos[d].ok = false
 	sv.add(d, nb)
 	if sv.key().less(before) {
+		sv.commit()
 		return true
 	}
 	sv.remove(d)
 	sv.add(d, old)
 	sv.flush()
+	sv.discard()
 	return false
 }
 
@@ -56,6 +83,7 @@ func (sv *solver) markOwn(d int, c choice) {
 // keepOrRevert keeps the plan if it beats before, else puts ds back on their old choices.
 func (sv *solver) keepOrRevert(ds []int32, olds []choice, before key) bool {
 	if sv.key().less(before) {
+		sv.commit()
 		return true
 	}
 	for i := len(ds) - 1; i >= 0; i-- {
@@ -63,6 +91,7 @@ func (sv *solver) keepOrRevert(ds []int32, olds []choice, before key) bool {
 		sv.add(int(ds[i]), olds[i])
 	}
 	sv.flush() // swaps the saved packings back
+	sv.discard()
 	return false
 }
 
@@ -429,6 +458,8 @@ func (sv *solver) start(open bool) {
 	for _, e := range sv.proposed {
 		sv.setPhantom(e, false)
 	}
+	sv.flush()
+	sv.newEpoch()
 }
 
 // place adds demand d's best choice to the plan. The searches estimate duct fill, so the exact
@@ -477,6 +508,7 @@ func (sv *solver) run() {
 	if !sv.key().less(first.key()) {
 		sv.st = first
 		sv.recount()
+		sv.newEpoch()
 	}
 	if len(sv.p.Demands)*len(sv.proposed) <= maxKickWork {
 		sv.kicks()
@@ -497,6 +529,8 @@ func (sv *solver) restore(saved []choice) {
 	for d, c := range saved {
 		sv.add(d, c)
 	}
+	sv.flush()
+	sv.newEpoch()
 }
 
 // kicks is an iterated local search for small problems: from the local optimum, force a
@@ -542,9 +576,12 @@ func (sv *solver) kicks() {
 			for _, e := range k.open {
 				sv.setPhantom(e, false)
 			}
+			sv.flush()
+			sv.newEpoch()
 			if k.close >= 0 {
 				sv.improve()
 				sv.forbid[k.close] = false
+				sv.cheaper(int(k.close))
 			}
 			sv.rounds += sv.improve()
 			if sv.key().less(before) {

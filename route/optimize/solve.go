@@ -112,9 +112,22 @@ type solver struct {
 	own     []uint32
 	ownSt   uint32
 	ownArea float64
-	bounds  []int64 // openMoves' saving bounds per affected demand
-	ord     []int32 // openMoves' estimate order
-	plainW  int64   // weight of the last pair found too long for its reach
+	bounds  []int64   // openMoves' saving bounds per affected demand
+	areas   []float64 // distinct cable cross-sections of the options, ascending, mm²
+	// Reroute memos (memo.go).
+	memos    []rerouteMemo
+	cheapAt  []uint64 // per edge and cable size rank: clock when it last became cheaper
+	clock    uint64
+	epoch    uint64
+	pend     []cheaperEvent // edges made cheaper by the move being tried
+	ranks    [][]int32      // per demand: ranks in areas of its options' cable sizes
+	pendOpen bool           // the move being tried opened a proposed edge
+	rec      bool           // record the edges the searches read
+	qSt      []uint32
+	qStamp   uint32
+	qList    []int32
+	ord      []int32 // openMoves' estimate order
+	plainW   int64   // weight of the last pair found too long for its reach
 }
 
 func newSolver(p *Problem, opt Settings) *solver {
@@ -130,6 +143,7 @@ func newSolver(p *Problem, opt Settings) *solver {
 		forbid: make([]bool, ne), phantom: make([]bool, ne), blk: make([]uint32, ne),
 		srch: newSearch[int64](net), rc: newRCSPScratch(net), ps: newPairScratch(net),
 		pen: make([]int64, ne), penOK: make([]bool, ne), penSt: make([]uint32, ne), self: make([]uint32, ne), own: make([]uint32, ne),
+		memos: make([]rerouteMemo, len(p.Demands)), qSt: make([]uint32, ne),
 	}
 	if sv.maxRounds == 0 {
 		sv.maxRounds = DefaultMaxRounds
@@ -182,8 +196,24 @@ func newSolver(p *Problem, opt Settings) *solver {
 				sv.lenClass[pr.exclude] = len(sv.lenBase)
 				sv.lenBase = append(sv.lenBase, sv.lenFor(pr.exclude))
 			}
+			sv.areas = append(sv.areas, circleMM2(op.CableODMM))
 			sv.optProf[d] = append(sv.optProf[d], pi)
 			sv.reach[d] = append(sv.reach[d], reachMM(op))
+		}
+	}
+	slices.Sort(sv.areas)
+	sv.areas = slices.Compact(sv.areas)
+	sv.cheapAt = make([]uint64, ne*len(sv.areas))
+	sv.ranks = make([][]int32, nd)
+	for d := range p.Demands {
+		if sv.invalid[d] != "" {
+			continue
+		}
+		for _, op := range p.Demands[d].Options {
+			r, _ := slices.BinarySearch(sv.areas, circleMM2(op.CableODMM))
+			if !slices.Contains(sv.ranks[d], int32(r)) {
+				sv.ranks[d] = append(sv.ranks[d], int32(r))
+			}
 		}
 	}
 	for d := range p.Demands {
@@ -268,6 +298,9 @@ func (sv *solver) weightFor(d, o int) func(e int32) (int64, bool) {
 	st := sv.st
 	area := circleMM2(sv.od(d, o))
 	return func(e int32) (int64, bool) {
+		if sv.rec {
+			sv.noteQuery(e)
+		}
 		b := base[e]
 		if b < 0 || sv.forbid[e] {
 			return 0, false

@@ -150,6 +150,14 @@ func (sv *solver) key() key {
 // applyDucts records edge e's new duct count and fit and updates the total.
 func (sv *solver) applyDucts(e, added int, ok bool) {
 	st := sv.st
+	wasFree, wasOver := st.free[e], st.over[e]
+	defer func() {
+		if wasOver && !st.over[e] {
+			sv.pendCheaper(e, 0, len(sv.areas))
+		} else if lo, hi := sv.sizesFitting(wasFree), sv.sizesFitting(st.free[e]); hi > lo {
+			sv.pendCheaper(e, lo, hi)
+		}
+	}()
 	if !ok {
 		added = st.added[e]
 	}
@@ -185,9 +193,8 @@ func mix(h, v uint64) uint64 {
 	return h ^ (h >> 31)
 }
 
-func (sv *solver) add(d int, c choice) {
-	st := sv.st
-	st.ch[d] = c
+// choiceSig hashes a choice: its option and the edges of its legs in order.
+func choiceSig(c choice) uint64 {
 	h := mix(0, uint64(c.opt+1))
 	for _, leg := range c.legs {
 		h = mix(h, 1<<40)
@@ -195,7 +202,13 @@ func (sv *solver) add(d int, c choice) {
 			h = mix(h, uint64(hp.Edge))
 		}
 	}
-	st.sig[d] = h
+	return h
+}
+
+func (sv *solver) add(d int, c choice) {
+	st := sv.st
+	st.ch[d] = c
+	st.sig[d] = choiceSig(c)
 	if c.opt < 0 {
 		return
 	}
@@ -213,6 +226,7 @@ func (sv *solver) add(d int, c choice) {
 				st.total += sv.fixedE[e]
 				if sv.fixedE[e] > 0 && !sv.phantom[e] {
 					sv.freeChanged(int32(e), true)
+					sv.pendOpen = true
 				}
 			}
 			if sv.tracked[e] {
@@ -250,6 +264,9 @@ func (sv *solver) remove(d int) choice {
 				}
 				st.users[e] = slices.Delete(st.users[e], i, i+1)
 				if sv.limited[e] {
+					if sv.cap.fits != nil {
+						sv.pendCheaper(e, 0, len(sv.areas))
+					}
 					st.ods[e] = slices.Delete(st.ods[e], i, i+1)
 					sv.touch(e, d, sv.od(d, c.opt))
 				}
