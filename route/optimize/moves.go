@@ -333,9 +333,13 @@ func (sv *solver) estimate(d int) int64 {
 // openMoves tries opening each candidate run. A candidate whose affected demands could not
 // together save the FixedCents of its unopened edges (by saveBound) is skipped; so is one
 // whose estimated savings, with the bounds of the demands not yet estimated, fall short. A
-// move that failed is not tried again until an affected demand changes route.
+// move that failed is not tried again until an affected demand changes route, and in the
+// same call no other run is tried for exactly the same demands on the same routes.
 func (sv *solver) openMoves() bool {
 	changed := false
+	// Affected sets (with their demands' choices) of the moves tried in vain in this call:
+	// another run of trenches for the same demands, from the same plan, is not tried.
+	tried := map[uint64]bool{}
 	for _, c := range sv.openCandidates() {
 		st := sv.st
 		var openCost int64
@@ -398,6 +402,16 @@ func (sv *solver) openMoves() bool {
 			sv.failedOpen[k] = sig
 			continue
 		}
+		aff := mix(0, 13)
+		for _, d := range c.affected {
+			aff = mix(mix(aff, uint64(d)), st.sig[d])
+		}
+		if tried[aff] {
+			for _, e := range c.edges {
+				sv.setPhantom(e, false)
+			}
+			continue
+		}
 		before := sv.key()
 		olds := make([]choice, len(c.affected))
 		for i, d := range c.affected {
@@ -412,6 +426,7 @@ func (sv *solver) openMoves() bool {
 			changed = true
 		} else {
 			sv.failedOpen[k] = sig
+			tried[aff] = true
 		}
 	}
 	return changed
