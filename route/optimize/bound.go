@@ -15,11 +15,21 @@ package optimize
 type planTree struct {
 	t      *tree
 	freeAt []bool // per proposed edge (index into solver.proposed): free when built
-	bad    int    // proposed edges free now but charged in the tree
-	loose  int    // proposed edges free in the tree but charged now
-	round  int    // solver.roundNo when built
+	hash   uint64 // solver.freeHash when built
+	// kept holds trees built earlier for other sets of free edges, most recent last: a local
+	// search that tries a move and reverts it returns to a set it has seen.
+	kept   []keptTree
+	bad    int // proposed edges free now but charged in the tree
+	loose  int // proposed edges free in the tree but charged now
+	round  int // solver.roundNo when built
 	anchor int
 	prof   int
+}
+
+type keptTree struct {
+	t      *tree
+	freeAt []bool
+	hash   uint64
 }
 
 // bounder is a lower-bound tree with the weights it was built on.
@@ -48,6 +58,7 @@ func (sv *solver) freeChanged(e int32, free bool) {
 	if pi < 0 {
 		return
 	}
+	sv.freeHash ^= mix(uint64(e), 17)
 	for _, pt := range sv.planList {
 		switch {
 		case free && !pt.freeAt[pi]:
@@ -80,8 +91,24 @@ func (sv *solver) setPhantom(e int32, on bool) {
 	sv.phantom[e] = on
 }
 
+// freeSetIs reports whether freeAt (per proposed edge) is the set of edges free now.
+func (sv *solver) freeSetIs(freeAt []bool) bool {
+	for pi, e := range sv.proposed {
+		if freeAt[pi] != sv.freeNow(e) {
+			return false
+		}
+	}
+	return true
+}
+
 // recount recomputes the plan trees' counters, after the state was replaced.
 func (sv *solver) recount() {
+	sv.freeHash = 0
+	for _, e := range sv.proposed {
+		if sv.freeNow(e) {
+			sv.freeHash ^= mix(uint64(e), 17)
+		}
+	}
 	for _, pt := range sv.planList {
 		pt.bad, pt.loose = 0, 0
 		for pi, e := range sv.proposed {
@@ -96,12 +123,14 @@ func (sv *solver) recount() {
 }
 
 // bound returns the tightest valid lower-bound tree for (anchor, profile): the plan tree,
-// rebuilt if needed, or the plain tree while phantom edges make a rebuild short-lived.
+// rebuilt if needed, or the plain tree while phantom edges make a rebuild short-lived, and
+// during the perturbation phase (kicks), whose plans change wholesale at every kick on
+// problems small enough for a search to cost less than a tree.
 func (sv *solver) bound(anchor, prof int) bounder {
-	if sv.length || len(sv.proposed) == 0 {
+	if sv.length || len(sv.proposed) == 0 || sv.plainBounds {
 		return bounder{t: sv.costTree(anchor, prof)}
 	}
-	k := [2]int{anchor, prof}
+	k := sv.slot(anchor)*len(sv.profiles) + prof
 	pt := sv.planTrees[k]
 	if pt != nil && pt.bad == 0 && (pt.loose == 0 || pt.round == sv.roundNo || sv.nPhantom > 0) {
 		return bounder{t: pt.t, pt: pt}
@@ -114,13 +143,37 @@ func (sv *solver) bound(anchor, prof int) bounder {
 		sv.planTrees[k] = pt
 		sv.planList = append(sv.planList, pt)
 	}
+	pt.bad, pt.loose, pt.round = 0, 0, sv.roundNo
+	if pt.t != nil && sv.keepTrees > 0 {
+		// Keep the current tree; reuse one kept for the current free set if there is one.
+		for i := range pt.kept {
+			if kt := &pt.kept[i]; kt.hash == sv.freeHash && sv.freeSetIs(kt.freeAt) {
+				kt.t, pt.t = pt.t, kt.t
+				kt.freeAt, pt.freeAt = pt.freeAt, kt.freeAt
+				kt.hash, pt.hash = pt.hash, kt.hash
+				k := *kt
+				copy(pt.kept[i:], pt.kept[i+1:])
+				pt.kept[len(pt.kept)-1] = k
+				return bounder{t: pt.t, pt: pt}
+			}
+		}
+		var buf keptTree
+		if len(pt.kept) == sv.keepTrees {
+			buf = pt.kept[0]
+			copy(pt.kept, pt.kept[1:])
+			pt.kept = pt.kept[:len(pt.kept)-1]
+		} else {
+			buf.freeAt = make([]bool, len(sv.proposed))
+		}
+		pt.kept = append(pt.kept, keptTree{t: pt.t, freeAt: pt.freeAt, hash: pt.hash})
+		pt.t, pt.freeAt = buf.t, buf.freeAt
+	}
 	for pi, e := range sv.proposed {
 		pt.freeAt[pi] = sv.freeNow(e)
 	}
-	pt.bad, pt.loose, pt.round = 0, 0, sv.roundNo
+	pt.hash = sv.freeHash
 	base := sv.profBase[prof]
-	buf := pt.t
-	pt.t = buildTreeInto(buf, sv.srch, anchor, func(e int32) (int64, bool) {
+	pt.t = buildTreeInto(pt.t, sv.srch, anchor, func(e int32) (int64, bool) {
 		b := base[e]
 		if b < 0 {
 			return 0, false

@@ -141,6 +141,7 @@ func (sv *solver) closeMoves() bool {
 type openCand struct {
 	edges    []int32
 	affected []int32
+	key      string // the edges as bytes, for failedOpen
 }
 
 // openCandidates lists runs of unopened proposed edges on the demands' unconstrained cheapest
@@ -149,41 +150,55 @@ func (sv *solver) openCandidates() []openCand {
 	st := sv.st
 	nd := len(sv.p.Demands)
 	small := len(sv.proposed) <= 48 && nd <= 48
-	var all []int32
-	for d := 0; d < nd; d++ {
-		if sv.invalid[d] == "" {
-			all = append(all, int32(d))
+	if sv.valid == nil {
+		for d := 0; d < nd; d++ {
+			if sv.invalid[d] == "" {
+				sv.valid = append(sv.valid, int32(d))
+			}
 		}
 	}
-	optUsers := map[int32][]int32{}
+	all := sv.valid
+	if sv.optUsers == nil {
+		sv.optUsers = make([][]int32, len(sv.proposed))
+	}
+	for i := range sv.optUsers {
+		sv.optUsers[i] = sv.optUsers[i][:0]
+	}
 	seen := map[string]bool{}
 	var cands []openCand
 	addCand := func(edges []int32) {
 		if len(edges) == 0 {
 			return
 		}
-		es := slices.Clone(edges)
-		slices.Sort(es)
-		k := string(int32Key(es))
+		sv.candBuf = append(sv.candBuf[:0], edges...)
+		slices.Sort(sv.candBuf)
+		k := string(int32Key(sv.candBuf))
 		if seen[k] {
 			return
 		}
 		seen[k] = true
-		cands = append(cands, openCand{edges: es})
+		cands = append(cands, openCand{edges: slices.Clone(sv.candBuf), key: k})
 	}
+	run, whole := sv.runBuf[:0], sv.wholeBuf[:0]
 	for _, d := range all {
 		o := st.ch[d].opt
 		if o < 0 {
 			o = 0
 		}
 		tr := sv.costTree(sv.to[d], sv.optProf[d][o])
-		var run, whole []int32
-		for _, h := range tr.pathFrom(sv.net, sv.from[d]) {
-			e := int32(h.Edge)
+		run, whole = run[:0], whole[:0]
+		for v := sv.from[d]; tr.dist[v] >= 0 && tr.pred[v] >= 0; {
+			e := tr.pred[v]
+			if ed := &sv.p.Edges[e]; ed.From == v {
+				v = ed.To
+			} else {
+				v = ed.From
+			}
 			if sv.fixedE[e] > 0 && st.count[e] == 0 {
 				run = append(run, e)
 				whole = append(whole, e)
-				optUsers[e] = append(optUsers[e], d)
+				pi := sv.propIdx[e]
+				sv.optUsers[pi] = append(sv.optUsers[pi], d)
 				continue
 			}
 			addCand(run)
@@ -192,6 +207,7 @@ func (sv *solver) openCandidates() []openCand {
 		addCand(run)
 		addCand(whole)
 	}
+	sv.runBuf, sv.wholeBuf = run, whole
 	if small {
 		for _, e := range sv.proposed {
 			if st.count[e] == 0 {
@@ -206,7 +222,7 @@ func (sv *solver) openCandidates() []openCand {
 		}
 		var aff []int32
 		for _, e := range cands[i].edges {
-			aff = append(aff, optUsers[e]...)
+			aff = append(aff, sv.optUsers[sv.propIdx[e]]...)
 		}
 		slices.Sort(aff)
 		cands[i].affected = slices.Compact(aff)
@@ -365,7 +381,7 @@ func (sv *solver) openMoves() bool {
 		if bound <= openCost {
 			continue
 		}
-		k := string(int32Key(c.edges))
+		k := c.key
 		if f, ok := sv.failedOpen[k]; ok && f == sig {
 			continue
 		}
@@ -521,9 +537,13 @@ func (sv *solver) run() {
 	sv.start(true)
 	sv.rounds += sv.improve()
 	if !sv.key().less(first.key()) {
+		second := sv.st
 		sv.st = first
+		sv.dropState(second)
 		sv.recount()
 		sv.newEpoch()
+	} else {
+		sv.dropState(first)
 	}
 	if len(sv.p.Demands)*len(sv.proposed) <= maxKickWork {
 		sv.kicks()
@@ -539,7 +559,9 @@ const maxKickWork = 4096
 
 // restore rebuilds the state from saved choices.
 func (sv *solver) restore(saved []choice) {
+	old := sv.st
 	sv.st = newState(sv)
+	sv.dropState(old)
 	sv.recount()
 	for d, c := range saved {
 		sv.add(d, c)
@@ -554,6 +576,8 @@ func (sv *solver) restore(saved []choice) {
 // It catches trades that no single move finds, such as closing two edges while opening two
 // others. It repeats while a kick succeeds, at most Settings.MaxRounds times.
 func (sv *solver) kicks() {
+	sv.plainBounds = true
+	defer func() { sv.plainBounds = false }()
 	for pass := 0; pass < sv.maxRounds; pass++ {
 		improved := false
 		var all []int32

@@ -2,6 +2,7 @@ package optimize
 
 import (
 	"math"
+	"sync"
 
 	"gonum.org/v1/gonum/graph"
 	"gonum.org/v1/gonum/graph/iterator"
@@ -18,14 +19,16 @@ var (
 
 // Network is the pathway multigraph of a Problem.
 //
-// Graph holds it as a gonum multi.WeightedUndirectedGraph: node IDs are node indices, each
-// edge is one line whose UID is the edge index and whose weight is its length in metres.
+// Graph returns it as a gonum multi.WeightedUndirectedGraph, built on first use: node IDs are
+// node indices, each edge is one line whose UID is the edge index and whose weight is its
+// length in metres.
 // Alongside it Network keeps a flat adjacency array (compressed sparse rows, neighbours in edge
 // index order) that the optimizer's inner loops walk: a search there touches two slices per step
 // instead of allocating gonum iterators and consulting maps, which is what makes thousands of
 // searches per Solve affordable.
 type Network struct {
-	g *multi.WeightedUndirectedGraph
+	g     *multi.WeightedUndirectedGraph
+	gOnce sync.Once
 
 	nodes int
 	edges []Edge
@@ -44,15 +47,10 @@ type arc struct {
 // [0, nodes); NewNetwork panics otherwise (Solve validates them first).
 func NewNetwork(nodes int, edges []Edge) *Network {
 	n := &Network{
-		g:     multi.NewWeightedUndirectedGraph(),
 		nodes: nodes,
 		edges: edges,
 		start: make([]int32, nodes+1),
 		lenMM: make([]int64, len(edges)),
-	}
-	n.g.EdgeWeightFunc = minLineWeight
-	for v := 0; v < nodes; v++ {
-		n.g.AddNode(simple.Node(v))
 	}
 	deg := make([]int32, nodes+1)
 	for i := range edges {
@@ -61,7 +59,6 @@ func NewNetwork(nodes int, edges []Edge) *Network {
 			panic("optimize: edge endpoint out of range")
 		}
 		n.lenMM[i] = lengthMM(e.LengthM)
-		n.g.SetWeightedLine(multi.WeightedLine{F: simple.Node(e.From), T: simple.Node(e.To), W: e.LengthM, UID: int64(i)})
 		deg[e.From]++
 		if e.To != e.From {
 			deg[e.To]++
@@ -97,8 +94,23 @@ func minLineWeight(lines graph.WeightedLines) float64 {
 	return w
 }
 
-// Graph returns the gonum multigraph. Callers must not modify it.
-func (n *Network) Graph() *multi.WeightedUndirectedGraph { return n.g }
+// Graph returns the gonum multigraph, building it on the first call (safe for concurrent
+// use). Callers must not modify it.
+func (n *Network) Graph() *multi.WeightedUndirectedGraph {
+	n.gOnce.Do(func() {
+		g := multi.NewWeightedUndirectedGraph()
+		g.EdgeWeightFunc = minLineWeight
+		for v := 0; v < n.nodes; v++ {
+			g.AddNode(simple.Node(v))
+		}
+		for i := range n.edges {
+			e := &n.edges[i]
+			g.SetWeightedLine(multi.WeightedLine{F: simple.Node(e.From), T: simple.Node(e.To), W: e.LengthM, UID: int64(i)})
+		}
+		n.g = g
+	})
+	return n.g
+}
 
 // View returns the network seen through weight as a simple weighted undirected gonum graph:
 // weight(e) gives edge e's weight and whether it may be used, and parallel edges collapse to

@@ -41,7 +41,7 @@ func (sv *solver) pair(d, o int, mix bool) (legs [2][]Hop, weight int64, ok, too
 	limit := sv.reach[d][o]
 	prof := sv.optProf[d][o]
 	weight = math.MaxInt64
-	lt := sv.lenTree(t, sv.profiles[prof].exclude)
+	lt := sv.lenTreeOf(t, sv.profLen[prof])
 	if lt.dist[s] < 0 || lt.dist[s] > limit {
 		return legs, weight, false, false
 	}

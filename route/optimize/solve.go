@@ -77,16 +77,22 @@ type solver struct {
 	groups   map[int][]int32
 	proposed []int32
 
-	costTrees map[[2]int]*tree // (anchor, profile)
-	planTrees map[[2]int]*planTree
-	planList  []*planTree // planTrees in creation order
-	propIdx   []int32     // edge → index into proposed, -1 for other edges
-	nPhantom  int         // phantom edges
-	roundNo   int         // local search rounds begun, for rebuilding loose plan trees
+	costTrees   []*tree     // slot × profiles + profile, see slot
+	planTrees   []*planTree // slot × profiles + profile
+	planList    []*planTree // planTrees in creation order
+	anchorSlot  []int32     // node → slot of the trees rooted there, -1 when none yet
+	nSlots      int
+	profLen     []int   // profile → exclusion class
+	propIdx     []int32 // edge → index into proposed, -1 for other edges
+	nPhantom    int     // phantom edges
+	freeHash    uint64  // set hash of the proposed edges free now (open or phantom)
+	keepTrees   int     // plan trees kept per (anchor, profile) for other free sets
+	plainBounds bool    // bound serves the plain trees only (see bound)
+	roundNo     int     // local search rounds begun, for rebuilding loose plan trees
 
 	failedClose map[int32]uint64  // edge → signature of its users when closing it failed
 	failedOpen  map[string]uint64 // candidate → signature of its demands when opening failed
-	lenTrees    map[[2]int]*tree  // (anchor, exclusion class)
+	lenTrees    []*tree           // slot × exclusion classes + class
 	comps       map[uint64][]int  // excluded flags → component label per node (for reasons)
 
 	cap capacity
@@ -112,8 +118,13 @@ type solver struct {
 	own     []uint32
 	ownSt   uint32
 	ownArea float64
-	bounds  []int64   // openMoves' saving bounds per affected demand
-	areas   []float64 // distinct cable cross-sections of the options, ascending, mm²
+	bounds  []int64  // openMoves' saving bounds per affected demand
+	pool    []*state // states dropped, for newState to reuse
+	// openCandidates' scratch: valid demands, demands per proposed edge, edge runs.
+	valid                     []int32
+	optUsers                  [][]int32
+	candBuf, runBuf, wholeBuf []int32
+	areas                     []float64 // distinct cable cross-sections of the options, ascending, mm²
 	// Reroute memos (memo.go).
 	memos    []rerouteMemo
 	cheapAt  []uint64 // per edge and cable size rank: clock when it last became cheaper
@@ -137,7 +148,7 @@ func newSolver(p *Problem, opt Settings) *solver {
 		p: p, net: net, length: opt.Objective == ObjectiveLength, maxRounds: opt.MaxRounds,
 		lenClass: map[uint64]int{}, fixedE: make([]int64, ne), limited: make([]bool, ne), tracked: make([]bool, ne),
 		ductCent: make([]int64, ne), groups: map[int][]int32{},
-		costTrees: map[[2]int]*tree{}, planTrees: map[[2]int]*planTree{}, propIdx: make([]int32, ne), lenTrees: map[[2]int]*tree{}, comps: map[uint64][]int{},
+		propIdx: make([]int32, ne), comps: map[uint64][]int{}, anchorSlot: make([]int32, max(p.Nodes, 0)),
 		failedClose: map[int32]uint64{}, failedOpen: map[string]uint64{},
 		cap:    capacity{edges: p.Edges, fits: p.Fits},
 		forbid: make([]bool, ne), phantom: make([]bool, ne), blk: make([]uint32, ne),
@@ -148,6 +159,7 @@ func newSolver(p *Problem, opt Settings) *solver {
 	if sv.maxRounds == 0 {
 		sv.maxRounds = DefaultMaxRounds
 	}
+	sv.keepTrees = min(8, 20000/max(p.Nodes, 1)) // a few MB of trees at most
 	for i := range p.Edges {
 		e := &p.Edges[i]
 		sv.propIdx[i] = -1
@@ -191,15 +203,19 @@ func newSolver(p *Problem, opt Settings) *solver {
 				sv.profiles = append(sv.profiles, pr)
 				sv.profBase = append(sv.profBase, sv.baseFor(pr, false))
 				sv.profCent = append(sv.profCent, sv.baseFor(pr, true))
-			}
-			if _, ok := sv.lenClass[pr.exclude]; !ok {
-				sv.lenClass[pr.exclude] = len(sv.lenBase)
-				sv.lenBase = append(sv.lenBase, sv.lenFor(pr.exclude))
+				if _, ok := sv.lenClass[pr.exclude]; !ok {
+					sv.lenClass[pr.exclude] = len(sv.lenBase)
+					sv.lenBase = append(sv.lenBase, sv.lenFor(pr.exclude))
+				}
+				sv.profLen = append(sv.profLen, sv.lenClass[pr.exclude])
 			}
 			sv.areas = append(sv.areas, circleMM2(op.CableODMM))
 			sv.optProf[d] = append(sv.optProf[d], pi)
 			sv.reach[d] = append(sv.reach[d], reachMM(op))
 		}
+	}
+	for i := range sv.anchorSlot {
+		sv.anchorSlot[i] = -1
 	}
 	slices.Sort(sv.areas)
 	sv.areas = slices.Compact(sv.areas)
@@ -262,9 +278,26 @@ func (sv *solver) lenFor(exclude uint64) []int64 {
 	return b
 }
 
+// slot returns the index of anchor among the anchors seen so far, growing the tree tables
+// (indexed slot × profiles + profile, slot × exclusion classes + class) by one when new.
+func (sv *solver) slot(anchor int) int {
+	if s := sv.anchorSlot[anchor]; s >= 0 {
+		return int(s)
+	}
+	s := sv.nSlots
+	sv.anchorSlot[anchor] = int32(s)
+	sv.nSlots++
+	np, nl := len(sv.profiles), len(sv.lenBase)
+	sv.costTrees = append(sv.costTrees, make([]*tree, np)...)
+	sv.planTrees = append(sv.planTrees, make([]*planTree, np)...)
+	sv.lenTrees = append(sv.lenTrees, make([]*tree, nl)...)
+	return s
+}
+
+// costTree returns the lower-bound tree of (anchor, profile) with every proposed edge free.
 func (sv *solver) costTree(anchor, prof int) *tree {
-	k := [2]int{anchor, prof}
-	if t, ok := sv.costTrees[k]; ok {
+	k := sv.slot(anchor)*len(sv.profiles) + prof
+	if t := sv.costTrees[k]; t != nil {
 		return t
 	}
 	base := sv.profBase[prof]
@@ -273,10 +306,14 @@ func (sv *solver) costTree(anchor, prof int) *tree {
 	return t
 }
 
+// lenTree returns the shortest-length tree of anchor over the edges open to exclude's media.
 func (sv *solver) lenTree(anchor int, exclude uint64) *tree {
-	c := sv.lenClass[exclude]
-	k := [2]int{anchor, c}
-	if t, ok := sv.lenTrees[k]; ok {
+	return sv.lenTreeOf(anchor, sv.lenClass[exclude])
+}
+
+func (sv *solver) lenTreeOf(anchor, c int) *tree {
+	k := sv.slot(anchor)*len(sv.lenBase) + c
+	if t := sv.lenTrees[k]; t != nil {
 		return t
 	}
 	base := sv.lenBase[c]
@@ -327,23 +364,29 @@ func (sv *solver) route(d, o int) ([]Hop, int64, bool) {
 	bd := sv.bound(t, prof)
 	tr := bd.t
 	limit := sv.reach[d][o]
-	if lt := sv.lenTree(t, sv.profiles[prof].exclude); tr.dist[s] < 0 || lt.dist[s] > limit {
+	if lt := sv.lenTreeOf(t, sv.profLen[prof]); tr.dist[s] < 0 || lt.dist[s] > limit {
 		return nil, 0, false
 	}
 	w := sv.weightFor(d, o)
 	base := sv.profBase[prof]
 	// The lower-bound tree path is optimal when every edge on it costs what the tree charged.
-	hops := tr.pathFrom(sv.net, s)
-	exact := true
-	for _, h := range hops {
-		if c, ok := w(int32(h.Edge)); !ok || c != sv.treeWeight(bd, base, int32(h.Edge)) {
+	exact := tr.lenMM[s] <= limit
+	for v := s; exact && tr.pred[v] >= 0; {
+		e := tr.pred[v]
+		if c, ok := w(e); !ok || c != sv.treeWeight(bd, base, e) {
 			exact = false
-			break
+		}
+		ed := &sv.p.Edges[e]
+		if ed.From == v {
+			v = ed.To
+		} else {
+			v = ed.From
 		}
 	}
-	if exact && tr.lenMM[s] <= limit {
-		return hops, tr.dist[s], true
+	if exact {
+		return tr.pathFrom(sv.net, s), tr.dist[s], true
 	}
+	var hops []Hop
 	if !sv.srch.run(s, t, w, treeH(tr)) {
 		return nil, 0, false
 	}
@@ -351,7 +394,7 @@ func (sv *solver) route(d, o int) ([]Hop, int64, bool) {
 	if sv.srch.lenMM[t] <= limit {
 		return hops, sv.srch.dist[t], true
 	}
-	lt := sv.lenTree(t, sv.profiles[prof].exclude)
+	lt := sv.lenTreeOf(t, sv.profLen[prof])
 	if lt.dist[s] > limit {
 		return nil, 0, false
 	}

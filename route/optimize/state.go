@@ -57,13 +57,31 @@ func (a key) less(b key) bool {
 	return a.totalMM < b.totalMM
 }
 
+// newState returns an empty plan, reusing a state dropped earlier (see dropState) when there
+// is one, with its buffers.
 func newState(sv *solver) *state {
-	ne, nd := len(sv.p.Edges), len(sv.p.Demands)
-	st := &state{ch: make([]choice, nd), count: make([]int32, ne), users: make([][]int32, ne),
-		added: make([]int, ne), over: make([]bool, ne), packs: make([]ductPack, ne), sig: make([]uint64, nd),
-		ods: make([][]float64, ne), hsh: make([]uint64, ne), packH: make([]uint64, ne),
-		alt: make([]packState, ne), isDirty: make([]bool, ne), free: make([]float64, ne)}
-	for e := range st.packs {
+	var st *state
+	if n := len(sv.pool); n > 0 {
+		st, sv.pool = sv.pool[n-1], sv.pool[:n-1]
+	} else {
+		ne, nd := len(sv.p.Edges), len(sv.p.Demands)
+		st = &state{ch: make([]choice, nd), count: make([]int32, ne), users: make([][]int32, ne),
+			added: make([]int, ne), over: make([]bool, ne), packs: make([]ductPack, ne), sig: make([]uint64, nd),
+			ods: make([][]float64, ne), hsh: make([]uint64, ne), packH: make([]uint64, ne),
+			alt: make([]packState, ne), isDirty: make([]bool, ne), free: make([]float64, ne)}
+	}
+	clear(st.count)
+	clear(st.added)
+	clear(st.over)
+	clear(st.sig)
+	clear(st.hsh)
+	clear(st.packH)
+	clear(st.isDirty)
+	clear(st.free)
+	st.dirty = st.dirty[:0]
+	for e := range st.users {
+		st.users[e], st.ods[e] = st.users[e][:0], st.ods[e][:0]
+		st.alt[e].valid = false
 		if sv.limited[e] {
 			st.packs[e].reset(circleMM2(sv.p.Edges[e].DuctIDMM))
 			st.free[e] = math.Inf(-1)
@@ -73,10 +91,17 @@ func newState(sv *solver) *state {
 		}
 	}
 	for d := range st.ch {
-		st.ch[d].opt = -1
-		st.unrouted++
+		st.ch[d] = choice{opt: -1}
 	}
+	st.total, st.totalMM, st.overfull, st.unmet, st.unrouted = 0, 0, 0, 0, len(st.ch)
 	return st
+}
+
+// dropState hands a state no longer used back for newState to reuse.
+func (sv *solver) dropState(st *state) {
+	if st != nil && st != sv.st {
+		sv.pool = append(sv.pool, st)
+	}
 }
 
 func (st *state) key() key { return key{st.overfull, st.unrouted, st.unmet, st.total, st.totalMM} }
