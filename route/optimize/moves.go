@@ -249,30 +249,45 @@ func int32Key(es []int32) []byte {
 // takes edge {a, b} from a to b saves at most σ = T(a) − w − T(b) over T, since every other
 // edge of the path costs at least the T difference of its ends. A pair's legs share no edge,
 // so a pair costs at least 2·T(s) − Σσ.
+//
+// The parts that do not depend on open are kept per demand until the plan changes (sbVer).
 func (sv *solver) saveBound(d int, open []int32) int64 {
 	st := sv.st
-	c := st.ch[d]
 	dm := &sv.p.Demands[d]
-	if c.opt < 0 || (dm.Diverse && len(c.legs) < 2) {
-		return math.MaxInt64 / 4
-	}
-	cur := c.varCost + dm.Options[c.opt].FixedCents
-	area := circleMM2(sv.od(d, c.opt))
-	for _, leg := range c.legs {
-		for _, h := range leg {
-			if sv.fixedE[h.Edge] > 0 && st.count[h.Edge] == 1 {
-				cur += sv.fixedE[h.Edge]
-			}
-			if sv.limited[h.Edge] && st.added[h.Edge] > 0 && sv.holdsLastDuct(int32(h.Edge), area) {
-				cur += sv.ductCent[h.Edge]
+	off := sv.optOff[d]
+	if sv.sbAt[d] != sv.sbVer {
+		sv.sbAt[d] = sv.sbVer
+		c := st.ch[d]
+		sv.sbCur[d] = -1
+		if c.opt < 0 || (dm.Diverse && len(c.legs) < 2) {
+			return math.MaxInt64 / 4
+		}
+		cur := c.varCost + dm.Options[c.opt].FixedCents
+		area := circleMM2(sv.od(d, c.opt))
+		for _, leg := range c.legs {
+			for _, h := range leg {
+				if sv.fixedE[h.Edge] > 0 && st.count[h.Edge] == 1 {
+					cur += sv.fixedE[h.Edge]
+				}
+				if sv.limited[h.Edge] && st.added[h.Edge] > 0 && sv.holdsLastDuct(int32(h.Edge), area) {
+					cur += sv.ductCent[h.Edge]
+				}
 			}
 		}
+		sv.sbCur[d] = cur
+		for o := range dm.Options {
+			sv.sbTree[off+o] = sv.bound(sv.to[d], sv.optProf[d][o]).t
+		}
+	}
+	cur := sv.sbCur[d]
+	if cur < 0 {
+		return math.MaxInt64 / 4
 	}
 	lb := int64(math.MaxInt64)
 	for o := range dm.Options {
 		prof := sv.optProf[d][o]
-		b := sv.bound(sv.to[d], prof)
-		t := b.t.dist[sv.from[d]]
+		tr := sv.sbTree[off+o]
+		t := tr.dist[sv.from[d]]
 		if t < 0 {
 			continue
 		}
@@ -285,7 +300,7 @@ func (sv *solver) saveBound(d int, open []int32) int64 {
 				continue
 			}
 			ed := &sv.p.Edges[e]
-			ta, tb := b.t.dist[ed.From], b.t.dist[ed.To]
+			ta, tb := tr.dist[ed.From], tr.dist[ed.To]
 			if ta < 0 || tb < 0 {
 				continue
 			}
@@ -356,6 +371,7 @@ func (sv *solver) openMoves() bool {
 	// Affected sets (with their demands' choices) of the moves tried in vain in this call:
 	// another run of trenches for the same demands, from the same plan, is not tried.
 	tried := map[uint64]bool{}
+	sv.sbVer++
 	for _, c := range sv.openCandidates() {
 		st := sv.st
 		var openCost int64
@@ -440,6 +456,7 @@ func (sv *solver) openMoves() bool {
 		}
 		if sv.keepOrRevert(c.affected, olds, before) {
 			changed = true
+			sv.sbVer++
 		} else {
 			sv.failedOpen[k] = sig
 			tried[aff] = true
@@ -469,8 +486,8 @@ func (sv *solver) improve() int {
 				changed = true
 			}
 		}
-		if !changed {
-			break
+		if !changed || sv.optima[sv.st.planH] {
+			break // a local optimum, or one the perturbation phase has reached before (kicks)
 		}
 	}
 	return rounds
@@ -576,6 +593,9 @@ func (sv *solver) restore(saved []choice) {
 // It catches trades that no single move finds, such as closing two edges while opening two
 // others. It repeats while a kick succeeds, at most Settings.MaxRounds times.
 func (sv *solver) kicks() {
+	// Local optima reached so far: a descent that reaches one again would end there as before.
+	sv.optima = map[uint64]bool{sv.st.planH: true}
+	defer func() { sv.optima = nil }()
 	sv.plainBounds = true
 	defer func() { sv.plainBounds = false }()
 	for pass := 0; pass < sv.maxRounds; pass++ {
@@ -623,6 +643,7 @@ func (sv *solver) kicks() {
 				sv.cheaper(int(k.close))
 			}
 			sv.rounds += sv.improve()
+			sv.optima[sv.st.planH] = true
 			if sv.key().less(before) {
 				improved = true
 				continue

@@ -118,8 +118,16 @@ type solver struct {
 	own     []uint32
 	ownSt   uint32
 	ownArea float64
-	bounds  []int64  // openMoves' saving bounds per affected demand
-	pool    []*state // states dropped, for newState to reuse
+	bounds  []int64         // openMoves' saving bounds per affected demand
+	pool    []*state        // states dropped, for newState to reuse
+	optima  map[uint64]bool // plan hashes of the local optima the kicks reached
+	// saveBound's parts per demand (sbCur, -1 for no bound) and option (sbTree, at optOff),
+	// valid while sbAt == sbVer.
+	optOff []int
+	sbAt   []uint32
+	sbVer  uint32
+	sbCur  []int64
+	sbTree []*tree
 	// openCandidates' scratch: valid demands, demands per proposed edge, edge runs.
 	valid                     []int32
 	optUsers                  [][]int32
@@ -217,6 +225,13 @@ func newSolver(p *Problem, opt Settings) *solver {
 	for i := range sv.anchorSlot {
 		sv.anchorSlot[i] = -1
 	}
+	sv.optOff = make([]int, nd)
+	nopt := 0
+	for d := range p.Demands {
+		sv.optOff[d] = nopt
+		nopt += len(p.Demands[d].Options)
+	}
+	sv.sbAt, sv.sbCur, sv.sbTree = make([]uint32, nd), make([]int64, nd), make([]*tree, nopt)
 	slices.Sort(sv.areas)
 	sv.areas = slices.Compact(sv.areas)
 	sv.cheapAt = make([]uint64, ne*len(sv.areas))

@@ -22,6 +22,7 @@ type state struct {
 	over     []bool      // per limited edge: cables do not fit
 	packs    []ductPack  // per limited edge: NFPA first-fit packing of its users (nil Fits only)
 	sig      []uint64    // per demand: hash of its choice, for skipping moves already tried
+	planH    uint64      // Σ mix(demand, sig): the plan's hash
 	ods      [][]float64 // per limited edge: cable ODs of users, parallel to users
 	hsh      []uint64    // per limited edge: set hash of its (demand, OD) pairs
 	packH    []uint64    // per limited edge: the hash its packing was computed for
@@ -90,8 +91,11 @@ func newState(sv *solver) *state {
 			}
 		}
 	}
+	st.planH = 0
+	unrouted := choiceSig(choice{opt: -1})
 	for d := range st.ch {
-		st.ch[d] = choice{opt: -1}
+		st.ch[d], st.sig[d] = choice{opt: -1}, unrouted
+		st.planH += mix(uint64(d), unrouted)
 	}
 	st.total, st.totalMM, st.overfull, st.unmet, st.unrouted = 0, 0, 0, 0, len(st.ch)
 	return st
@@ -233,7 +237,9 @@ func choiceSig(c choice) uint64 {
 func (sv *solver) add(d int, c choice) {
 	st := sv.st
 	st.ch[d] = c
+	st.planH -= mix(uint64(d), st.sig[d])
 	st.sig[d] = choiceSig(c)
+	st.planH += mix(uint64(d), st.sig[d])
 	if c.opt < 0 {
 		return
 	}
@@ -269,6 +275,9 @@ func (sv *solver) add(d int, c choice) {
 func (sv *solver) remove(d int) choice {
 	st := sv.st
 	c := st.ch[d]
+	st.planH -= mix(uint64(d), st.sig[d])
+	st.sig[d] = choiceSig(choice{opt: -1})
+	st.planH += mix(uint64(d), st.sig[d])
 	if c.opt < 0 {
 		return c
 	}
