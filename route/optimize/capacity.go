@@ -171,6 +171,43 @@ func (c *capacity) needed(e int, ods []float64, pack *ductPack) (added int, ok b
 	return added, true
 }
 
+// prefixNeeds returns, for each i, the ducts needed(e, ods[:i+1]) adds, or the value for
+// the previous prefix when that prefix cannot be pulled. The default rule packs first-fit
+// online, so one pass gives every prefix (a custom Fits is asked prefix by prefix).
+func (c *capacity) prefixNeeds(e int, ods []float64) []int {
+	out := make([]int, len(ods))
+	prev := 0
+	if c.fits != nil {
+		for i := range ods {
+			if k, ok := c.needed(e, ods[:i+1], nil); ok {
+				prev = k
+			}
+			out[i] = prev
+		}
+		return out
+	}
+	ed := &c.edges[e]
+	var p ductPack
+	p.reset(circleMM2(ed.DuctIDMM))
+	failed := false
+	for i, od := range ods {
+		if !failed && od > 0 && !p.place(math.Pi/4*od*od) {
+			failed = true // this prefix and every longer one cannot be pulled
+		}
+		if !failed {
+			maxAdd := 0
+			if ed.AddDuctPerMCents > 0 {
+				maxAdd = i + 1
+			}
+			if added := max(0, len(p.count)-ed.Ducts); added <= maxAdd {
+				prev = added
+			}
+		}
+		out[i] = prev
+	}
+	return out
+}
+
 // allowedArea returns the cables' area and the NFPA area allowed in the ducts they occupy,
 // packing first-fit in order, in mm².
 func allowedArea(ductIDMM float64, ods []float64) (usedMM2, allowedMM2 float64) {

@@ -75,11 +75,7 @@ func (sv *solver) solution() *Solution {
 			fill.Ducts, fill.AddedDucts = ed.Ducts, st.added[e]
 			fill.UsedAreaMM2, fill.AllowedAreaMM2 = allowedArea(ed.DuctIDMM, ods)
 			prev := 0
-			for i := range ods {
-				k, ok := sv.cap.needed(e, ods[:i+1], nil)
-				if !ok {
-					k = prev
-				}
+			for i, k := range sv.cap.prefixNeeds(e, ods) {
 				if k > prev {
 					sol.Routes[users[i]].Cost.AddedDuctCents += int64(k-prev) * sv.ductCent[e]
 					prev = k

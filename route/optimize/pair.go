@@ -110,18 +110,26 @@ func (sv *solver) groupsOf(leg []Hop) []int {
 
 // sharedGroup returns the smallest group both legs use, or 0.
 func (sv *solver) sharedGroup(legs [2][]Hop) int {
-	a, b := sv.groupsOf(legs[0]), sv.groupsOf(legs[1])
-	for i, j := 0, 0; i < len(a) && j < len(b); {
-		switch {
-		case a[i] == b[j]:
-			return a[i]
-		case a[i] < b[j]:
-			i++
-		default:
-			j++
+	a := sv.gbuf[:0]
+	for _, h := range legs[0] {
+		if g := sv.p.Edges[h.Edge].Group; g > 0 {
+			a = append(a, g)
 		}
 	}
-	return 0
+	sv.gbuf = a
+	if len(a) == 0 {
+		return 0
+	}
+	slices.Sort(a)
+	shared := 0
+	for _, h := range legs[1] {
+		if g := sv.p.Edges[h.Edge].Group; g > 0 && (shared == 0 || g < shared) {
+			if _, ok := slices.BinarySearch(a, g); ok {
+				shared = g
+			}
+		}
+	}
+	return shared
 }
 
 // block starts a new set of blocked edges holding es (read by groupPair's weight wrapper).

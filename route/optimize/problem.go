@@ -153,6 +153,15 @@ func (l ErrorList) Err() error {
 
 func finiteNonNeg(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) && v >= 0 }
 
+// ref names an edge or option in messages, formatted only when a message needs it.
+type ref struct {
+	kind  string
+	index int
+	id    string
+}
+
+func (r ref) String() string { return fmt.Sprintf("%s %d (%q)", r.kind, r.index, r.id) }
+
 // validate checks what makes a whole solve meaningless (edges, settings). Problems with one
 // demand are not errors: they make that demand infeasible.
 func validate(p *Problem, s Settings) error {
@@ -171,7 +180,7 @@ func validate(p *Problem, s Settings) error {
 	}
 	for i := range p.Edges {
 		e := &p.Edges[i]
-		name := fmt.Sprintf("edge %d (%q)", i, e.ID)
+		name := ref{"edge", i, e.ID}
 		if e.From < 0 || e.From >= p.Nodes {
 			bad("%s: from: want node index in [0, %d), got %d", name, p.Nodes, e.From)
 		}
@@ -234,7 +243,7 @@ func demandProblem(p *Problem, d *Demand) string {
 	}
 	for i := range d.Options {
 		o := &d.Options[i]
-		name := fmt.Sprintf("option %d (%q)", i, o.Name)
+		name := ref{"option", i, o.Name}
 		if o.CablePerMCents < 0 || o.CablePerMCents > maxPerMCents {
 			msgs = append(msgs, fmt.Sprintf("%s: cable per metre: want cents in [0, %d], got %d", name, int64(maxPerMCents), o.CablePerMCents))
 		}

@@ -120,6 +120,7 @@ type solver struct {
 	ownArea float64
 	bounds  []int64         // openMoves' saving bounds per affected demand
 	pool    []*state        // states dropped, for newState to reuse
+	gbuf    []int           // sharedGroup's scratch
 	optima  map[uint64]bool // plan hashes of the local optima the kicks reached
 	// saveBound's parts per demand (sbCur, -1 for no bound) and option (sbTree, at optOff),
 	// valid while sbAt == sbVer.
@@ -460,7 +461,8 @@ func (sv *solver) best(d int) choice {
 		lb  int64
 		opt int
 	}
-	order := make([]lbo, 0, len(dm.Options))
+	var buf [8]lbo
+	order := buf[:0]
 	for o := range dm.Options {
 		lb := sv.bound(sv.to[d], sv.optProf[d][o]).t.dist[sv.from[d]]
 		if lb < 0 {
