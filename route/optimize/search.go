@@ -4,58 +4,71 @@ package optimize
 // for the Lagrangian weights of LARAC.
 type weight interface{ ~int64 | ~float64 }
 
-// minHeap is a binary heap of (key, item), ties broken by the smaller item so that every search
-// is deterministic.
+// minHeap is a 4-ary heap of (key, item), ties broken by the smaller item so that every
+// search is deterministic: entries leave in the order of (key, item), whatever the arity.
+// Four children per node halve the depth of a binary heap, and keys and items sit side by
+// side, which is what the searches' inner loops spend most of their time on.
 type minHeap[W weight] struct {
-	keys  []W
-	items []int32
+	es []heapEntry[W]
 }
 
-func (h *minHeap[W]) len() int { return len(h.items) }
-func (h *minHeap[W]) reset()   { h.keys, h.items = h.keys[:0], h.items[:0] }
-
-func (h *minHeap[W]) less(i, j int) bool {
-	return h.keys[i] < h.keys[j] || (h.keys[i] == h.keys[j] && h.items[i] < h.items[j])
+type heapEntry[W weight] struct {
+	key  W
+	item int32
 }
 
-func (h *minHeap[W]) swap(i, j int) {
-	h.keys[i], h.keys[j] = h.keys[j], h.keys[i]
-	h.items[i], h.items[j] = h.items[j], h.items[i]
+func (h *minHeap[W]) len() int { return len(h.es) }
+func (h *minHeap[W]) reset()   { h.es = h.es[:0] }
+
+func (a heapEntry[W]) less(b heapEntry[W]) bool {
+	return a.key < b.key || (a.key == b.key && a.item < b.item)
 }
 
 func (h *minHeap[W]) push(k W, it int32) {
-	h.keys = append(h.keys, k)
-	h.items = append(h.items, it)
-	for i := len(h.items) - 1; i > 0; {
-		p := (i - 1) / 2
-		if !h.less(i, p) {
+	x := heapEntry[W]{k, it}
+	h.es = append(h.es, x)
+	es := h.es
+	i := len(es) - 1
+	for i > 0 {
+		p := (i - 1) / 4
+		if !x.less(es[p]) {
 			break
 		}
-		h.swap(i, p)
+		es[i] = es[p]
 		i = p
 	}
+	es[i] = x
 }
 
 func (h *minHeap[W]) pop() (W, int32) {
-	k, it := h.keys[0], h.items[0]
-	n := len(h.items) - 1
-	h.swap(0, n)
-	h.keys, h.items = h.keys[:n], h.items[:n]
-	for i := 0; ; {
-		l, r, m := 2*i+1, 2*i+2, i
-		if l < n && h.less(l, m) {
-			m = l
+	es := h.es
+	top := es[0]
+	n := len(es) - 1
+	x := es[n]
+	h.es = es[:n]
+	es = es[:n]
+	if n > 0 {
+		i := 0
+		for {
+			c := 4*i + 1
+			if c >= n {
+				break
+			}
+			m := c
+			for j := c + 1; j < c+4 && j < n; j++ {
+				if es[j].less(es[m]) {
+					m = j
+				}
+			}
+			if !es[m].less(x) {
+				break
+			}
+			es[i] = es[m]
+			i = m
 		}
-		if r < n && h.less(r, m) {
-			m = r
-		}
-		if m == i {
-			break
-		}
-		h.swap(i, m)
-		i = m
+		es[i] = x
 	}
-	return k, it
+	return top.key, top.item
 }
 
 // search is reusable scratch space for Dijkstra and A* over a Network's flat adjacency.
