@@ -361,6 +361,43 @@ func (sv *solver) estimate(d int) int64 {
 	return max(0, cur-nc)
 }
 
+// estKey names an estimate: a candidate run (openCand.key) and a demand.
+type estKey struct {
+	cand string
+	d    int32
+}
+
+// estRec is an estimate kept for a later pass over the candidates.
+type estRec struct {
+	sig  uint64 // the demand's choice then
+	stay int64  // what staying cost it then
+	gain int64
+}
+
+// estimateFor is estimate under the candidate run named cand, kept for later passes: on
+// problems too large for every candidate to concern every demand, an estimate is reused
+// while the demand keeps its choice and staying costs it the same. Other demands' moves may
+// have changed the estimate meanwhile; it only screens moves, which are judged on the exact
+// cost when tried.
+func (sv *solver) estimateFor(cand string, d int) int64 {
+	c := sv.st.ch[d]
+	small := len(sv.proposed) <= 48 && len(sv.p.Demands) <= 48
+	if small || c.opt < 0 {
+		return sv.estimate(d)
+	}
+	stay, ok := sv.stayWeight(d, c)
+	if !ok {
+		return sv.estimate(d)
+	}
+	k := estKey{cand, int32(d)}
+	if r, found := sv.estMemo[k]; found && r.sig == sv.st.sig[d] && r.stay == stay {
+		return r.gain
+	}
+	g := sv.estimate(d)
+	sv.estMemo[k] = estRec{sig: sv.st.sig[d], stay: stay, gain: g}
+	return g
+}
+
 // openMoves tries opening each candidate run. A candidate whose affected demands could not
 // together save the FixedCents of its unopened edges (by saveBound) is skipped; so is one
 // whose estimated savings, with the bounds of the demands not yet estimated, fall short. A
@@ -421,7 +458,7 @@ func (sv *solver) openMoves() bool {
 		sv.ord = ord
 		var gain int64
 		for _, i := range ord {
-			gain += sv.estimate(int(c.affected[i]))
+			gain += sv.estimateFor(c.key, int(c.affected[i]))
 			bound -= bounds[i]
 			if gain > openCost || gain+bound <= openCost {
 				break

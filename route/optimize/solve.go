@@ -118,10 +118,11 @@ type solver struct {
 	own     []uint32
 	ownSt   uint32
 	ownArea float64
-	bounds  []int64         // openMoves' saving bounds per affected demand
-	pool    []*state        // states dropped, for newState to reuse
-	gbuf    []int           // sharedGroup's scratch
-	optima  map[uint64]bool // plan hashes of the local optima the kicks reached
+	bounds  []int64           // openMoves' saving bounds per affected demand
+	pool    []*state          // states dropped, for newState to reuse
+	estMemo map[estKey]estRec // open-move estimates kept between passes (estimateFor)
+	gbuf    []int             // sharedGroup's scratch
+	optima  map[uint64]bool   // plan hashes of the local optima the kicks reached
 	// saveBound's parts per demand (sbCur, -1 for no bound) and option (sbTree, at optOff),
 	// valid while sbAt == sbVer.
 	optOff []int
@@ -158,7 +159,7 @@ func newSolver(p *Problem, opt Settings) *solver {
 		lenClass: map[uint64]int{}, fixedE: make([]int64, ne), limited: make([]bool, ne), tracked: make([]bool, ne),
 		ductCent: make([]int64, ne), groups: map[int][]int32{},
 		propIdx: make([]int32, ne), comps: map[uint64][]int{}, anchorSlot: make([]int32, max(p.Nodes, 0)),
-		failedClose: map[int32]uint64{}, failedOpen: map[string]uint64{},
+		failedClose: map[int32]uint64{}, failedOpen: map[string]uint64{}, estMemo: map[estKey]estRec{},
 		cap:    capacity{edges: p.Edges, fits: p.Fits},
 		forbid: make([]bool, ne), phantom: make([]bool, ne), blk: make([]uint32, ne),
 		srch: newSearch[int64](net), rc: newRCSPScratch(net), ps: newPairScratch(net),
