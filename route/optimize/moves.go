@@ -13,7 +13,7 @@ func (sv *solver) reroute(d int) bool {
 		return false
 	}
 	before := sv.key()
-	memo := !sv.length && sv.st.ch[d].opt >= 0
+	memo := sv.memoUsable() && sv.st.ch[d].opt >= 0
 	if memo && sv.memoHolds(d) {
 		return false
 	}
@@ -21,7 +21,7 @@ func (sv *solver) reroute(d int) bool {
 	if memo {
 		stay, memo = sv.stayWeight(d, sv.st.ch[d])
 	}
-	clock, sig := sv.clock, sv.st.sig[d]
+	sig := sv.st.sig[d]
 	if memo {
 		sv.startRecord()
 	}
@@ -31,23 +31,20 @@ func (sv *solver) reroute(d int) bool {
 		// The same choice again: nothing to try.
 		sv.add(d, old)
 		sv.flush()
-		sv.discard()
 		sv.memos[d].ok = false
 		if memo {
-			sv.remember(d, clock, sig, stay)
+			sv.remember(d, sig, stay)
 		}
 		return false
 	}
 	sv.memos[d].ok = false
 	sv.add(d, nb)
 	if sv.key().less(before) {
-		sv.commit()
 		return true
 	}
 	sv.remove(d)
 	sv.add(d, old)
 	sv.flush()
-	sv.discard()
 	return false
 }
 
@@ -83,7 +80,6 @@ func (sv *solver) markOwn(d int, c choice) {
 // keepOrRevert keeps the plan if it beats before, else puts ds back on their old choices.
 func (sv *solver) keepOrRevert(ds []int32, olds []choice, before key) bool {
 	if sv.key().less(before) {
-		sv.commit()
 		return true
 	}
 	for i := len(ds) - 1; i >= 0; i-- {
@@ -91,7 +87,6 @@ func (sv *solver) keepOrRevert(ds []int32, olds []choice, before key) bool {
 		sv.add(int(ds[i]), olds[i])
 	}
 	sv.flush() // swaps the saved packings back
-	sv.discard()
 	return false
 }
 
@@ -677,7 +672,6 @@ func (sv *solver) kicks() {
 			if k.close >= 0 {
 				sv.improve()
 				sv.forbid[k.close] = false
-				sv.cheaper(int(k.close))
 			}
 			sv.rounds += sv.improve()
 			sv.optima[sv.st.planH] = true

@@ -136,19 +136,16 @@ type solver struct {
 	candBuf, runBuf, wholeBuf []int32
 	areas                     []float64 // distinct cable cross-sections of the options, ascending, mm²
 	// Reroute memos (memo.go).
-	memos    []rerouteMemo
-	cheapAt  []uint64 // per edge and cable size rank: clock when it last became cheaper
-	clock    uint64
-	epoch    uint64
-	pend     []cheaperEvent // edges made cheaper by the move being tried
-	ranks    [][]int32      // per demand: ranks in areas of its options' cable sizes
-	pendOpen bool           // the move being tried opened a proposed edge
-	rec      bool           // record the edges the searches read
-	qSt      []uint32
-	qStamp   uint32
-	qList    []int32
-	ord      []int32 // openMoves' estimate order
-	plainW   int64   // weight of the last pair found too long for its reach
+	memos  []rerouteMemo
+	epoch  uint64
+	ranks  [][]int32 // per demand: ranks in areas of its options' cable sizes
+	rec    bool      // record the edges the searches read
+	qSt    []uint32
+	qStamp uint32
+	qList  []int32
+	qLevel []uint8 // per edge: priceLevel when a memo search read it
+	ord    []int32 // openMoves' estimate order
+	plainW int64   // weight of the last pair found too long for its reach
 }
 
 func newSolver(p *Problem, opt Settings) *solver {
@@ -164,7 +161,7 @@ func newSolver(p *Problem, opt Settings) *solver {
 		forbid: make([]bool, ne), phantom: make([]bool, ne), blk: make([]uint32, ne),
 		srch: newSearch[int64](net), rc: newRCSPScratch(net), ps: newPairScratch(net),
 		pen: make([]int64, ne), penOK: make([]bool, ne), penSt: make([]uint32, ne), self: make([]uint32, ne), own: make([]uint32, ne),
-		memos: make([]rerouteMemo, len(p.Demands)), qSt: make([]uint32, ne),
+		memos: make([]rerouteMemo, len(p.Demands)), qSt: make([]uint32, ne), qLevel: make([]uint8, ne),
 	}
 	if sv.maxRounds == 0 {
 		sv.maxRounds = DefaultMaxRounds
@@ -236,7 +233,6 @@ func newSolver(p *Problem, opt Settings) *solver {
 	sv.sbAt, sv.sbCur, sv.sbTree = make([]uint32, nd), make([]int64, nd), make([]*tree, nopt)
 	slices.Sort(sv.areas)
 	sv.areas = slices.Compact(sv.areas)
-	sv.cheapAt = make([]uint64, ne*len(sv.areas))
 	sv.ranks = make([][]int32, nd)
 	for d := range p.Demands {
 		if sv.invalid[d] != "" {

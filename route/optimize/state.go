@@ -179,14 +179,6 @@ func (sv *solver) key() key {
 // applyDucts records edge e's new duct count and fit and updates the total.
 func (sv *solver) applyDucts(e, added int, ok bool) {
 	st := sv.st
-	wasFree, wasOver := st.free[e], st.over[e]
-	defer func() {
-		if wasOver && !st.over[e] {
-			sv.pendCheaper(e, 0, len(sv.areas))
-		} else if lo, hi := sv.sizesFitting(wasFree), sv.sizesFitting(st.free[e]); hi > lo {
-			sv.pendCheaper(e, lo, hi)
-		}
-	}()
 	if !ok {
 		added = st.added[e]
 	}
@@ -257,7 +249,6 @@ func (sv *solver) add(d int, c choice) {
 				st.total += sv.fixedE[e]
 				if sv.fixedE[e] > 0 && !sv.phantom[e] {
 					sv.freeChanged(int32(e), true)
-					sv.pendOpen = true
 				}
 			}
 			if sv.tracked[e] {
@@ -298,9 +289,6 @@ func (sv *solver) remove(d int) choice {
 				}
 				st.users[e] = slices.Delete(st.users[e], i, i+1)
 				if sv.limited[e] {
-					if sv.cap.fits != nil {
-						sv.pendCheaper(e, 0, len(sv.areas))
-					}
 					st.ods[e] = slices.Delete(st.ods[e], i, i+1)
 					sv.touch(e, d, sv.od(d, c.opt))
 				}
