@@ -654,13 +654,29 @@ func (sv *solver) kicks() {
 		for _, k := range ks {
 			before := sv.key()
 			saved := slices.Clone(sv.st.ch)
+			// The demands the kick may move: a closed edge's users; for an opened run, those
+			// that could save anything with it open (saveBound, on the plan trees).
+			moved := sv.kickBuf[:0]
+			if k.close >= 0 {
+				moved = append(moved, sv.st.users[k.close]...)
+			} else {
+				sv.sbVer++
+				sv.plainBounds = false
+				for _, d := range all {
+					if sv.saveBound(int(d), k.open) > 0 {
+						moved = append(moved, d)
+					}
+				}
+				sv.plainBounds = true
+			}
+			sv.kickBuf = moved
 			for _, e := range k.open {
 				sv.setPhantom(e, true)
 			}
 			if k.close >= 0 {
 				sv.forbid[k.close] = true
 			}
-			for _, d := range all {
+			for _, d := range moved {
 				_, nb := sv.rebest(int(d))
 				sv.add(int(d), nb)
 			}
@@ -673,7 +689,14 @@ func (sv *solver) kicks() {
 				sv.improve()
 				sv.forbid[k.close] = false
 			}
-			sv.rounds += sv.improve()
+			// Reroute the demands the kick moved first: when that alone leads back to a known
+			// optimum, the descent would end there.
+			for _, d := range moved {
+				sv.reroute(int(d))
+			}
+			if !sv.optima[sv.st.planH] {
+				sv.rounds += sv.improve()
+			}
 			sv.optima[sv.st.planH] = true
 			if sv.key().less(before) {
 				improved = true

@@ -122,6 +122,7 @@ type solver struct {
 	pool    []*state          // states dropped, for newState to reuse
 	estMemo map[estKey]estRec // open-move estimates kept between passes (estimateFor)
 	gbuf    []int             // sharedGroup's scratch
+	kickBuf []int32           // the demands a kick moves
 	optima  map[uint64]bool   // plan hashes of the local optima the kicks reached
 	// saveBound's parts per demand (sbCur, -1 for no bound) and option (sbTree, at optOff),
 	// valid while sbAt == sbVer.
