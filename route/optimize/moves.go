@@ -622,6 +622,7 @@ func (sv *solver) restore(saved []choice) {
 // kicks is an iterated local search for small problems: from the local optimum, force a
 // change — open a candidate run of proposed edges for everyone, or forbid an opened edge —
 // descend again from there, and keep the result only if it beats the optimum it started from.
+// A run whose demands could not together save its FixedCents (saveBound) is not kicked open.
 // It catches trades that no single move finds, such as closing two edges while opening two
 // others. It repeats while a kick succeeds, at most Settings.MaxRounds times.
 func (sv *solver) kicks() {
@@ -662,12 +663,21 @@ func (sv *solver) kicks() {
 			} else {
 				sv.sbVer++
 				sv.plainBounds = false
+				var bound, openCost int64
 				for _, d := range all {
-					if sv.saveBound(int(d), k.open) > 0 {
+					if b := sv.saveBound(int(d), k.open); b > 0 {
 						moved = append(moved, d)
+						bound += b
 					}
 				}
+				for _, e := range k.open {
+					openCost += sv.fixedE[e]
+				}
 				sv.plainBounds = true
+				if bound <= openCost {
+					// Opening the run cannot pay by itself: its descent would close it again.
+					continue
+				}
 			}
 			sv.kickBuf = moved
 			for _, e := range k.open {
