@@ -1,6 +1,9 @@
 package optimize
 
-import "math"
+import (
+	"math"
+	"slices"
+)
 
 // NFPA 70 Chapter 9 Table 1: the share of a conduit's internal cross-section that its cables may
 // fill (seen).
@@ -129,6 +132,8 @@ func NFPAFits(ductIDMM float64, cableODsMM []float64, ducts int) bool {
 type capacity struct {
 	edges []Edge
 	fits  FitsFunc // nil: the NFPA first-fit rule, computed in one pass
+	pack  ductPack // scratch for prefixNeeds and allowedArea
+	needs []int    // prefixNeeds' result, reused
 }
 
 // needed returns how many ducts must be added to edge e for cables of the given ODs, pulled
@@ -175,7 +180,8 @@ func (c *capacity) needed(e int, ods []float64, pack *ductPack) (added int, ok b
 // the previous prefix when that prefix cannot be pulled. The default rule packs first-fit
 // online, so one pass gives every prefix (a custom Fits is asked prefix by prefix).
 func (c *capacity) prefixNeeds(e int, ods []float64) []int {
-	out := make([]int, len(ods))
+	out := slices.Grow(c.needs[:0], len(ods))[:len(ods)]
+	c.needs = out
 	prev := 0
 	if c.fits != nil {
 		for i := range ods {
@@ -187,7 +193,7 @@ func (c *capacity) prefixNeeds(e int, ods []float64) []int {
 		return out
 	}
 	ed := &c.edges[e]
-	var p ductPack
+	p := &c.pack
 	p.reset(circleMM2(ed.DuctIDMM))
 	failed := false
 	for i, od := range ods {
@@ -210,8 +216,8 @@ func (c *capacity) prefixNeeds(e int, ods []float64) []int {
 
 // allowedArea returns the cables' area and the NFPA area allowed in the ducts they occupy,
 // packing first-fit in order, in mm².
-func allowedArea(ductIDMM float64, ods []float64) (usedMM2, allowedMM2 float64) {
-	var p ductPack
+func (c *capacity) allowedArea(ductIDMM float64, ods []float64) (usedMM2, allowedMM2 float64) {
+	p := &c.pack
 	p.reset(circleMM2(ductIDMM))
 	for _, od := range ods {
 		a := circleMM2(od)

@@ -188,8 +188,10 @@ func disjointPair(ps *pairScratch, s, t int, w func(e int32) (int64, bool), h he
 	if nSrc != 2 {
 		panic("optimize: disjoint pair: source does not carry two units of flow")
 	}
+	// Both legs together use at most the edges of P1 and P2: one backing array serves both.
+	buf := make([]Hop, 0, len(p1)+len(p2))
 	for k := 0; k < 2; k++ {
-		var leg []Hop
+		leg := buf[len(buf):len(buf)]
 		u := int32(s)
 		e, x := srcE[k], srcV[k]
 		for steps := 0; ; steps++ {
@@ -207,7 +209,8 @@ func disjointPair(ps *pairScratch, s, t int, w func(e int32) (int64, bool), h he
 			}
 			e, x = ps.flowE[u], ps.flowV[u]
 		}
-		res.legs[k] = leg
+		res.legs[k] = leg[:len(leg):len(leg)]
+		buf = buf[:len(buf)+len(leg)]
 		c, _ := pathEval(net, leg, w)
 		res.weight += c
 	}

@@ -68,12 +68,13 @@ func (sv *solver) solution() *Solution {
 		fill := EdgeFill{Edge: e, Cables: int(st.count[e]), Limited: sv.limited[e]}
 		if sv.limited[e] {
 			ed := &p.Edges[e]
-			ods := make([]float64, len(users))
-			for i, u := range users {
-				ods[i] = sv.od(int(u), st.ch[u].opt)
+			ods := sv.odBuf[:0]
+			for _, u := range users {
+				ods = append(ods, sv.od(int(u), st.ch[u].opt))
 			}
+			sv.odBuf = ods
 			fill.Ducts, fill.AddedDucts = ed.Ducts, st.added[e]
-			fill.UsedAreaMM2, fill.AllowedAreaMM2 = allowedArea(ed.DuctIDMM, ods)
+			fill.UsedAreaMM2, fill.AllowedAreaMM2 = sv.cap.allowedArea(ed.DuctIDMM, ods)
 			prev := 0
 			for i, k := range sv.cap.prefixNeeds(e, ods) {
 				if k > prev {

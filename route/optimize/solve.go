@@ -486,10 +486,12 @@ func (sv *solver) best(d int) choice {
 	bestC := cand{obj: math.MaxInt64}
 	var bestCh choice
 	bestCh.opt = -1
-	consider := func(o int, legs [][]Hop, w int64) {
+	var bestLegs [2][]Hop // the legs of bestCh, made a slice only for the winner
+	nLegs := 0
+	consider := func(o int, legs [2][]Hop, n int, w int64) {
 		var vc, mm int64
 		cents := sv.profCent[sv.optProf[d][o]]
-		for _, leg := range legs {
+		for _, leg := range legs[:n] {
 			for _, h := range leg {
 				vc += cents[h.Edge]
 				mm += sv.net.lenMM[h.Edge]
@@ -502,8 +504,15 @@ func (sv *solver) best(d int) choice {
 		}
 		if c.less(bestC) {
 			bestC = c
-			bestCh = choice{opt: o, legs: legs, varCost: vc, lenMM: mm}
+			bestCh = choice{opt: o, varCost: vc, lenMM: mm}
+			bestLegs, nLegs = legs, n
 		}
+	}
+	done := func() choice {
+		if bestCh.opt >= 0 {
+			bestCh.legs = append([][]Hop(nil), bestLegs[:nLegs]...)
+		}
+		return bestCh
 	}
 	pruned := func(x lbo) bool { return !sv.length && (x.lb > bestC.obj || (x.lb == bestC.obj && x.opt > bestC.opt)) }
 	if dm.Diverse {
@@ -514,7 +523,7 @@ func (sv *solver) best(d int) choice {
 			}
 			legs, w, ok, tooLong := sv.pair(d, x.opt, false)
 			if ok {
-				consider(x.opt, legs[:], w)
+				consider(x.opt, legs, 2, w)
 			} else if tooLong {
 				// The cheapest pair, too long, bounds every pair within reach from below.
 				x.lb = max(x.lb, w+dm.Options[x.opt].FixedCents)
@@ -530,11 +539,11 @@ func (sv *solver) best(d int) choice {
 				continue
 			}
 			if legs, w, ok, _ := sv.pair(d, x.opt, true); ok {
-				consider(x.opt, legs[:], w)
+				consider(x.opt, legs, 2, w)
 			}
 		}
 		if bestCh.opt >= 0 {
-			return bestCh
+			return done()
 		}
 		for i := range order { // single-path bounds are half the pair bounds
 			if !sv.length {
@@ -548,8 +557,8 @@ func (sv *solver) best(d int) choice {
 			break
 		}
 		if hops, w, ok := sv.route(d, x.opt); ok {
-			consider(x.opt, [][]Hop{hops}, w)
+			consider(x.opt, [2][]Hop{hops}, 1, w)
 		}
 	}
-	return bestCh
+	return done()
 }
