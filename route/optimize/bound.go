@@ -123,9 +123,9 @@ func (sv *solver) recount() {
 }
 
 // bound returns the tightest valid lower-bound tree for (anchor, profile): the plan tree,
-// rebuilt if needed, or the plain tree while phantom edges make a rebuild short-lived, and
-// during the perturbation phase (kicks), whose plans change wholesale at every kick on
-// problems small enough for a search to cost less than a tree.
+// rebuilt if needed, or the plain tree while phantom edges make a rebuild short-lived, on
+// networks under planTreeNodes, and during the perturbation phase (kicks), whose plans
+// change wholesale at every kick: there a search costs less than rebuilding a tree.
 func (sv *solver) bound(anchor, prof int) bounder {
 	if sv.length || len(sv.proposed) == 0 || sv.plainBounds {
 		return bounder{t: sv.costTree(anchor, prof)}

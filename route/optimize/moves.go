@@ -629,8 +629,9 @@ func (sv *solver) kicks() {
 	// Local optima reached so far: a descent that reaches one again would end there as before.
 	sv.optima = map[uint64]bool{sv.st.planH: true}
 	defer func() { sv.optima = nil }()
+	was := sv.plainBounds
 	sv.plainBounds = true
-	defer func() { sv.plainBounds = false }()
+	defer func() { sv.plainBounds = was }()
 	for pass := 0; pass < sv.maxRounds; pass++ {
 		improved := false
 		var all []int32

@@ -168,6 +168,7 @@ func newSolver(p *Problem, opt Settings) *solver {
 		sv.maxRounds = DefaultMaxRounds
 	}
 	sv.keepTrees = min(8, 20000/max(p.Nodes, 1)) // a few MB of trees at most
+	sv.plainBounds = p.Nodes < planTreeNodes
 	for i := range p.Edges {
 		e := &p.Edges[i]
 		sv.propIdx[i] = -1
@@ -562,3 +563,7 @@ func (sv *solver) best(d int) choice {
 	}
 	return done()
 }
+
+// planTreeNodes is the network size, in nodes, from which the searches use plan trees
+// (bound.go): on smaller networks a search costs less than the tree rebuilds would save.
+const planTreeNodes = 1000
