@@ -17,10 +17,11 @@
 // local search), finds diverse pairs for demands that need them and respects duct fill.
 //
 // The pathway graph is a gonum multigraph (multi.WeightedUndirectedGraph, one line per edge,
-// line UID = edge index). The hot loops (thousands of shortest-path searches per solve) run on a
-// flat adjacency array derived from it, because gonum's generic interfaces allocate an iterator
-// and look up maps on every step; gonum's own algorithms are used where their cost does not
-// matter (connectivity diagnosis) and as independent references in the tests.
+// line UID = edge index), built when Network.Graph is first called. The hot loops (thousands of
+// shortest-path searches per solve) run on a flat adjacency array of the same edges, because
+// gonum's generic interfaces allocate an iterator and look up maps on every step; gonum's own
+// algorithms are used where their cost does not matter (connectivity diagnosis, through a
+// View) and as independent references in the tests.
 //
 // All decisions are deterministic: fixed orders, no map iteration, no goroutines, so the same
 // Problem gives the same Solution on any machine and any GOMAXPROCS.

@@ -15,7 +15,9 @@ import (
 //  1. Lower bounds: one Dijkstra per (anchor node, cost profile), where the anchor is the
 //     demand end that more demands share (usually the cross-connect) and a cost profile is a
 //     distinct (cable price, excluded flags) pair, with every proposed edge free. These trees
-//     answer many searches outright and guide the others as A* heuristics.
+//     answer many searches outright and guide the others as A* heuristics. On networks of
+//     planTreeNodes or more, plan trees (bound.go) also charge the edges not yet opened, and
+//     serve instead while they stay valid.
 //  2. A starting plan: demands routed one by one in demand order with each unopened proposed
 //     edge charged its full FixedCents (edges opened by earlier demands are free). Each demand
 //     takes the option whose route (within reach: LARAC and an exact label search, see
@@ -27,11 +29,13 @@ import (
 //     cheaper); open a run of proposed edges that some demand's unconstrained cheapest route
 //     uses (treat it as free, reroute the demands it may help, keep if cheaper). Open moves are
 //     screened first by bounds and by an in-place estimate, and a failed move is not retried
-//     until a demand it involves changes route.
+//     until a demand it involves changes route. A reroute is skipped when its memo shows that
+//     no edge its last searches read has become cheaper (memo.go): it would change nothing.
 //  4. On problems with demands × proposed edges up to maxSecondStart, a second start routes the
 //     first pass with every proposed edge free and is searched the same way; the cheaper plan
 //     is kept. Up to maxKickWork, an iterated local search then perturbs the optimum (open a
-//     run for everyone, or forbid an opened edge) and descends again, keeping improvements.
+//     run that could pay for itself, or forbid an opened edge), moves the demands concerned
+//     and descends again, keeping improvements and stopping at optima already seen.
 //
 // Every move is kept only when the exact plan cost — compared lexicographically after the number
 // of capacity violations, unrouted demands and diverse demands without a pair, then by total
