@@ -208,7 +208,7 @@ func buildings() {
 	building("CHM", "Chemistry Laboratories", rect(-340, -200, -280, -140))
 	building("PHY", "Physics Building", rect(-250, -220, -200, -150))
 	building("BUS", "School of Business", []pt{{-160, -200}, {-120, -200}, {-120, -160}, {-90, -160}, {-90, -120}, {-160, -120}})
-	building("LEC", "Lecture Theatres", rect(-70, -215, -20, -165))
+	building("LEC", "Assembly Theatres", rect(-70, -215, -20, -165))
 	building("EST", "Estates Depot", rect(210, -210, 270, -150))
 	building("STO", "Central Stores", rect(290, -200, 340, -140))
 	building("LDG", "West Gate Lodge", rect(-460, -20, -430, 20), kv{"riser_m", 5})
