@@ -176,6 +176,31 @@ func (c *capacity) needed(e int, ods []float64, pack *ductPack) (added int, ok b
 	return added, true
 }
 
+// extend is needed for the default rule when the cables are those of packing from (all of
+// which fit) followed by more, pulled last: it copies from into to and places the more there.
+// total is the number of cables in all.
+func (c *capacity) extend(e int, from *packState, to *ductPack, more []float64, total int) (added int, ok bool) {
+	ed := &c.edges[e]
+	to.count = append(to.count[:0], from.count...)
+	to.used = append(to.used[:0], from.used...)
+	to.seg = append(to.seg[:0], from.seg...)
+	to.size = from.size
+	for _, od := range more {
+		if od <= 0 {
+			continue
+		}
+		if !to.place(math.Pi / 4 * od * od) {
+			return 0, false
+		}
+	}
+	maxAdd := 0
+	if ed.AddDuctPerMCents > 0 {
+		maxAdd = total
+	}
+	added = max(0, len(to.count)-ed.Ducts)
+	return added, added <= maxAdd
+}
+
 // prefixNeeds returns, for each i, the ducts needed(e, ods[:i+1]) adds, or the value for
 // the previous prefix when that prefix cannot be pulled. The default rule packs first-fit
 // online, so one pass gives every prefix (a custom Fits is asked prefix by prefix).

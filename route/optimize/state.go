@@ -29,6 +29,7 @@ type state struct {
 	alt      []packState // per limited edge: the packing before the last flush
 	dirty    []int32     // limited edges touched since the last flush
 	isDirty  []bool
+	appendN  []int32   // per limited edge: cables appended last (in demand order) since the flush, -1 after any other change
 	free     []float64 // per limited edge: largest cable area it takes without a new duct, mm²
 	total    int64     // plan cost in cents (without construction and ducts for the length objective)
 	totalMM  int64
@@ -69,7 +70,7 @@ func newState(sv *solver) *state {
 		st = &state{ch: make([]choice, nd), count: make([]int32, ne), users: make([][]int32, ne),
 			added: make([]int, ne), over: make([]bool, ne), packs: make([]ductPack, ne), sig: make([]uint64, nd),
 			ods: make([][]float64, ne), hsh: make([]uint64, ne), packH: make([]uint64, ne),
-			alt: make([]packState, ne), isDirty: make([]bool, ne), free: make([]float64, ne)}
+			alt: make([]packState, ne), isDirty: make([]bool, ne), free: make([]float64, ne), appendN: make([]int32, ne)}
 	}
 	clear(st.count)
 	clear(st.added)
@@ -78,6 +79,7 @@ func newState(sv *solver) *state {
 	clear(st.hsh)
 	clear(st.packH)
 	clear(st.isDirty)
+	clear(st.appendN)
 	clear(st.free)
 	st.dirty = st.dirty[:0]
 	for e := range st.users {
@@ -149,6 +151,8 @@ func (sv *solver) flush() {
 	for _, e32 := range st.dirty {
 		e := int(e32)
 		st.isDirty[e] = false
+		appended := st.appendN[e]
+		st.appendN[e] = 0
 		if st.hsh[e] == st.packH[e] {
 			continue
 		}
@@ -162,7 +166,12 @@ func (sv *solver) flush() {
 		added, ok := alt.added, alt.ok
 		alt.added, alt.ok, alt.h, alt.valid = st.added[e], !st.over[e], st.packH[e], true
 		if !swapWith {
-			added, ok = sv.cap.needed(e, st.ods[e], cur)
+			if ods := st.ods[e]; appended > 0 && sv.cap.fits == nil && !st.over[e] && int(appended) <= len(ods) {
+				// Cables pulled last: first-fit goes on from the packing before them.
+				added, ok = sv.cap.extend(e, alt, cur, ods[len(ods)-int(appended):], len(ods))
+			} else {
+				added, ok = sv.cap.needed(e, st.ods[e], cur)
+			}
 		}
 		st.packH[e] = st.hsh[e]
 		sv.applyDucts(e, added, ok)
@@ -253,6 +262,13 @@ func (sv *solver) add(d int, c choice) {
 			}
 			if sv.tracked[e] {
 				i, _ := slices.BinarySearch(st.users[e], int32(d))
+				if sv.limited[e] && st.appendN[e] >= 0 {
+					if i == len(st.users[e]) {
+						st.appendN[e]++
+					} else {
+						st.appendN[e] = -1
+					}
+				}
 				st.users[e] = slices.Insert(st.users[e], i, int32(d))
 				if sv.limited[e] {
 					st.ods[e] = slices.Insert(st.ods[e], i, sv.od(d, c.opt))
@@ -289,6 +305,7 @@ func (sv *solver) remove(d int) choice {
 				}
 				st.users[e] = slices.Delete(st.users[e], i, i+1)
 				if sv.limited[e] {
+					st.appendN[e] = -1
 					st.ods[e] = slices.Delete(st.ods[e], i, i+1)
 					sv.touch(e, d, sv.od(d, c.opt))
 				}
