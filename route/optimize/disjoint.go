@@ -32,7 +32,7 @@ type pairScratch struct {
 	seen    []uint32
 	settled []uint32
 	stamp   uint32
-	heap    minHeap[int64]
+	heap    radixHeap
 
 	p1Dir   []int8  // per edge: +1 used From→To by P1, -1 To→From, 0 unused
 	p1In    []int32 // per node on P1 (interior): edge of P1 into it

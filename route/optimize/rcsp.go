@@ -34,7 +34,7 @@ type label struct {
 // rcspScratch is reusable label storage.
 type rcspScratch struct {
 	labels  []label
-	heap    minHeap[int64]
+	heap    radixHeap
 	minLen  []int64 // least length of a settled label per node
 	minSeen []uint32
 	stamp   uint32

@@ -82,14 +82,20 @@ type search[W weight] struct {
 	settled []uint32
 	stamp   uint32
 	heap    minHeap[W]
+	rad     *radixHeap // used instead of heap when W is int64
 }
 
 func newSearch[W weight](net *Network) *search[W] {
 	n := net.nodes
-	return &search[W]{
+	s := &search[W]{
 		net: net, dist: make([]W, n), lenMM: make([]int64, n), pred: make([]int32, n),
 		seen: make([]uint32, n), settled: make([]uint32, n),
 	}
+	var zero W
+	if _, ok := any(zero).(int64); ok {
+		s.rad = &radixHeap{}
+	}
+	return s
 }
 
 // reached reports whether the last run labelled v.
@@ -115,16 +121,36 @@ func (s *search[W]) run(root, goal int, w func(e int32) (W, bool), h heuristic[W
 		s.stamp = 1
 	}
 	st := s.stamp
-	s.heap.reset()
+	rad := s.rad
+	if rad != nil {
+		rad.reset()
+	} else {
+		s.heap.reset()
+	}
 	s.dist[root], s.lenMM[root], s.pred[root], s.seen[root] = 0, 0, -1, st
 	var k W
 	if h != nil {
 		k, _ = h(int32(root))
 	}
-	s.heap.push(k, int32(root))
+	if rad != nil {
+		rad.push(int64(k), int32(root))
+	} else {
+		s.heap.push(k, int32(root))
+	}
 	net := s.net
-	for s.heap.len() > 0 {
-		_, u := s.heap.pop()
+	for {
+		var u int32
+		if rad != nil {
+			if rad.len() == 0 {
+				break
+			}
+			_, u = rad.pop()
+		} else {
+			if s.heap.len() == 0 {
+				break
+			}
+			_, u = s.heap.pop()
+		}
 		if s.settled[u] == st {
 			continue
 		}
@@ -155,7 +181,11 @@ func (s *search[W]) run(root, goal int, w func(e int32) (W, bool), h heuristic[W
 				k += hv
 			}
 			s.seen[v], s.dist[v], s.lenMM[v], s.pred[v] = st, nd, lu+net.lenMM[a.edge], a.edge
-			s.heap.push(k, v)
+			if rad != nil {
+				rad.push(int64(k), v)
+			} else {
+				s.heap.push(k, v)
+			}
 		}
 	}
 	return goal < 0
