@@ -47,7 +47,7 @@ func (sv *solver) priceLevel(e int32) uint8 {
 		l |= levelForbid
 	}
 	if sv.limited[e] {
-		l |= uint8(sv.sizesFitting(sv.st.free[e]))
+		l |= sv.st.fits[e]
 		if sv.st.over[e] {
 			l |= levelOver
 		}

@@ -31,6 +31,7 @@ type state struct {
 	isDirty  []bool
 	appendN  []int32   // per limited edge: cables appended last (in demand order) since the flush, -1 after any other change
 	free     []float64 // per limited edge: largest cable area it takes without a new duct, mm²
+	fits     []uint8   // per limited edge: how many of the options' cable sizes free takes (sizesFitting)
 	total    int64     // plan cost in cents (without construction and ducts for the length objective)
 	totalMM  int64
 	overfull int
@@ -70,7 +71,7 @@ func newState(sv *solver) *state {
 		st = &state{ch: make([]choice, nd), count: make([]int32, ne), users: make([][]int32, ne),
 			added: make([]int, ne), over: make([]bool, ne), packs: make([]ductPack, ne), sig: make([]uint64, nd),
 			ods: make([][]float64, ne), hsh: make([]uint64, ne), packH: make([]uint64, ne),
-			alt: make([]packState, ne), isDirty: make([]bool, ne), free: make([]float64, ne), appendN: make([]int32, ne)}
+			alt: make([]packState, ne), isDirty: make([]bool, ne), free: make([]float64, ne), appendN: make([]int32, ne), fits: make([]uint8, ne)}
 	}
 	clear(st.count)
 	clear(st.added)
@@ -81,6 +82,7 @@ func newState(sv *solver) *state {
 	clear(st.isDirty)
 	clear(st.appendN)
 	clear(st.free)
+	clear(st.fits)
 	st.dirty = st.dirty[:0]
 	for e := range st.users {
 		st.users[e], st.ods[e] = st.users[e][:0], st.ods[e][:0]
@@ -91,6 +93,7 @@ func newState(sv *solver) *state {
 			if sv.p.Edges[e].Ducts > 0 {
 				st.free[e] = FillOneCable * st.packs[e].areaMM2
 			}
+			st.fits[e] = uint8(min(sv.sizesFitting(st.free[e]), 255))
 		}
 	}
 	st.planH = 0
@@ -211,6 +214,7 @@ func (sv *solver) applyDucts(e, added int, ok bool) {
 	if len(pk.count) < sv.p.Edges[e].Ducts+added {
 		st.free[e] = max(st.free[e], FillOneCable*pk.areaMM2)
 	}
+	st.fits[e] = uint8(min(sv.sizesFitting(st.free[e]), 255))
 }
 
 // mix is a 64-bit hash step (SplitMix64 finaliser).
