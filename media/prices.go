@@ -177,22 +177,7 @@ func (p *PriceBook) Keys() []PriceKey {
 }
 
 func sortKeys(keys []PriceKey) {
-	sort.Slice(keys, func(i, j int) bool {
-		a, b := keys[i], keys[j]
-		if a.Item != b.Item {
-			return a.Item < b.Item
-		}
-		if a.Medium != b.Medium {
-			return a.Medium < b.Medium
-		}
-		if a.Construction != b.Construction {
-			return a.Construction < b.Construction
-		}
-		if a.Name != b.Name {
-			return a.Name < b.Name
-		}
-		return a.Count < b.Count
-	})
+	sort.Slice(keys, func(i, j int) bool { return keyLess(keys[i], keys[j]) })
 }
 
 // Check reports every key of needs the book lacks, at once, as an *ErrorList of *FileError

@@ -1,9 +1,9 @@
 package route
 
 import (
-	"fmt"
 	"io/fs"
 	"sort"
+	"sync"
 
 	"gonum.org/v1/gonum/graph/path"
 
@@ -18,6 +18,7 @@ type Site struct {
 
 	building map[string]*geo.Building
 	access   map[string]geo.Access
+	dist     sync.Map // building ID → map[string]float64, see distancesFrom
 }
 
 // SiteOptions are the noding options a site is built with.
@@ -77,8 +78,18 @@ func (s *Site) MainCrossConnect() string {
 }
 
 // distancesFrom returns, for every building, the network distance in metres from building
-// id (laterals included); unreachable buildings are absent.
+// id (laterals included); unreachable buildings are absent. The site never changes, so the
+// answer is computed once per building and shared: callers must not modify the map.
 func (s *Site) distancesFrom(id string) map[string]float64 {
+	if d, ok := s.dist.Load(id); ok {
+		return d.(map[string]float64)
+	}
+	d := s.computeDistances(id)
+	s.dist.Store(id, d)
+	return d
+}
+
+func (s *Site) computeDistances(id string) map[string]float64 {
 	a, ok := s.access[id]
 	if !ok {
 		return nil
@@ -107,30 +118,4 @@ func (s *Site) Unreachable(hub string) []string {
 	}
 	sort.Strings(out)
 	return out
-}
-
-// shortestPath returns the spans of the lightest path from junction a to junction b under
-// the graph's current weights, with each span's travel direction, and false when none exists.
-func (s *Site) shortestPath(g *Graph, fromJ, toJ string) ([]geo.Step, bool) {
-	u, _ := g.NodeOf(fromJ)
-	v, _ := g.NodeOf(toJ)
-	if u == v {
-		return nil, true
-	}
-	sh := path.DijkstraFrom(g.Node(u), g)
-	nodes, w := sh.To(v)
-	if len(nodes) == 0 || w > 1e300 {
-		return nil, false
-	}
-	steps := make([]geo.Step, 0, len(nodes)-1)
-	for i := 1; i < len(nodes); i++ {
-		x, y := nodes[i-1].ID(), nodes[i].ID()
-		si, _, ok := g.lightest(x, y)
-		if !ok {
-			panic(fmt.Sprintf("route: path uses missing edge %d-%d", x, y))
-		}
-		sp := &s.Net.Spans[si]
-		steps = append(steps, geo.Step{SpanID: sp.ID, Reverse: sp.From != g.Junction(x)})
-	}
-	return steps, true
 }
