@@ -3,6 +3,7 @@ module spanwright
 go 1.26.8
 
 require (
+	github.com/hashicorp/golang-lru/v2 v2.0.7
 	github.com/paulmach/orb v0.14.0
 	github.com/schollz/progressbar/v3 v3.19.1
 	github.com/urfave/cli/v2 v2.27.7

@@ -3,9 +3,11 @@ package media
 import (
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 	"strings"
-	"sync"
+
+	lru "github.com/hashicorp/golang-lru/v2"
 )
 
 // Rule ids of Rejections that no rule file defines.
@@ -36,8 +38,14 @@ type Engine struct {
 	// at which feasibility may change, for MaxChannelM.
 	breakpoints []float64
 	// maxMemo caches MaxChannelM by maxKey: plans and sweeps ask the same question often.
-	maxMemo sync.Map
+	maxMemo *lru.Cache[maxKey, float64]
+	// chosen caches Choose by chooseKey, bounded so a long sweep's memory stays flat.
+	chosen *lru.Cache[chooseKey, Choice]
 }
+
+// chooseCacheSize bounds the choices an engine remembers: about a hundred scenarios' legs
+// of a mid-sized campus.
+const chooseCacheSize = 8192
 
 // NewEngine checks that the rules, catalog and price book fit together and returns the
 // engine. A nil catalog, rule set or price book means the embedded default. It reports at
@@ -82,6 +90,9 @@ func NewEngine(c *Catalog, r *Rules, p *PriceBook, opt EngineOptions) (*Engine, 
 	if err := errs.Err(); err != nil {
 		return nil, err
 	}
+	// lru.New errs only on a size <= 0.
+	e.chosen, _ = lru.New[chooseKey, Choice](chooseCacheSize)
+	e.maxMemo, _ = lru.New[maxKey, float64](4 * chooseCacheSize)
 	return e, nil
 }
 
@@ -377,6 +388,40 @@ func linkName(l Link) string {
 // failed by the construction that failed the fewest rules. When no candidate is feasible Feasible is false and Reason says
 // why each medium failed, listing every one of its Rejections.
 func (e *Engine) Choose(l Link) Choice {
+	k := keyOf(l)
+	if ch, ok := e.chosen.Get(k); ok {
+		return ch.clone()
+	}
+	ch := e.choose(l)
+	e.chosen.Add(k, ch)
+	return ch.clone()
+}
+
+// chooseKey is everything Choose's answer depends on besides the engine: every field of Link,
+// its pathway types joined.
+type chooseKey struct {
+	id                                           string
+	routeM, riserM, slackM, rateGbps, futureGbps float64
+	emi                                          string
+	outdoor                                      bool
+	types                                        string
+	pairs, splices, strands                      int
+}
+
+func keyOf(l Link) chooseKey {
+	return chooseKey{id: l.ID, routeM: l.RouteM, riserM: l.RiserM, slackM: l.SlackM, rateGbps: l.RateGbps,
+		futureGbps: l.FutureRateGbps, emi: l.MaxEMI, outdoor: l.Outdoor, types: strings.Join(l.PathwayTypes, "\x00"),
+		pairs: l.ConnectorPairs, splices: l.Splices, strands: l.Strands}
+}
+
+// clone gives the caller slices of its own, so a remembered choice cannot be changed.
+func (c Choice) clone() Choice {
+	c.Losses = slices.Clone(c.Losses)
+	c.Rejected = slices.Clone(c.Rejected)
+	return c
+}
+
+func (e *Engine) choose(l Link) Choice {
 	if msg := checkLink(l); msg != "" {
 		return Choice{Reason: fmt.Sprintf("%s: bad facts: %s", linkName(l), msg)}
 	}
@@ -584,11 +629,11 @@ func (e *Engine) MaxChannelM(medium string, rateGbps, futureRateGbps float64, l 
 	k := maxKey{medium: medium, rate: rateGbps, future: futureRateGbps, riser: l.RiserM, slack: l.SlackM,
 		emi: l.MaxEMI, outdoor: l.Outdoor, types: strings.Join(l.PathwayTypes, ","), pairs: l.ConnectorPairs,
 		splices: l.Splices, strands: l.Strands}
-	if v, ok := e.maxMemo.Load(k); ok {
-		return v.(float64)
+	if v, ok := e.maxMemo.Get(k); ok {
+		return v
 	}
 	v := e.maxChannelM(medium, rateGbps, futureRateGbps, l)
-	e.maxMemo.Store(k, v)
+	e.maxMemo.Add(k, v)
 	return v
 }
 

@@ -484,3 +484,52 @@ func TestNewEngineErrors(t *testing.T) {
 		}
 	}
 }
+
+// TestChooseRemembers checks the engine's memory of its choices: every field of Link is part
+// of the key (a field added to Link without a line in keyOf fails here), a remembered choice
+// equals a fresh one, and a caller changing the slices it got back does not change the next
+// answer.
+func TestChooseRemembers(t *testing.T) {
+	t.Parallel()
+	l := Link{ID: "L", RouteM: 580, RiserM: 20, SlackM: 12, RateGbps: 10, FutureRateGbps: 40, MaxEMI: "low",
+		Outdoor: true, PathwayTypes: []string{"duct"}, ConnectorPairs: 2, Splices: 2, Strands: 12}
+	base := keyOf(l)
+	v := reflect.ValueOf(l)
+	for i := 0; i < v.NumField(); i++ {
+		m := l
+		m.PathwayTypes = append([]string(nil), l.PathwayTypes...)
+		f := reflect.ValueOf(&m).Elem().Field(i)
+		switch f.Kind() {
+		case reflect.String:
+			f.SetString(f.String() + "x")
+		case reflect.Float64:
+			f.SetFloat(f.Float() + 0.5)
+		case reflect.Int:
+			f.SetInt(f.Int() + 1)
+		case reflect.Bool:
+			f.SetBool(!f.Bool())
+		case reflect.Slice:
+			m.PathwayTypes = append(m.PathwayTypes, "tray")
+		default:
+			t.Fatalf("Link.%s: unhandled kind %s", v.Type().Field(i).Name, f.Kind())
+		}
+		if keyOf(m) == base {
+			t.Errorf("changing Link.%s leaves Choose's memory key as it was", v.Type().Field(i).Name)
+		}
+	}
+	if keyOf(Link{PathwayTypes: []string{"a,b"}}) == keyOf(Link{PathwayTypes: []string{"a", "b"}}) {
+		t.Error("two pathway type lists share a key")
+	}
+
+	e := newEngine(t, nil, nil, EngineOptions{LossMarginDB: 1})
+	first := e.Choose(l)
+	if !first.Feasible || len(first.Losses) == 0 || len(first.Rejected) == 0 {
+		t.Fatalf("want a feasible fibre choice with rejections, got %+v", first)
+	}
+	first.Losses[0].LossDB = -1
+	first.Rejected[0].Reason = "changed by the caller"
+	again := e.Choose(l)
+	if !reflect.DeepEqual(again, e.choose(l)) {
+		t.Errorf("remembered choice differs from a fresh one:\n%+v\n%+v", again, e.choose(l))
+	}
+}

@@ -5,9 +5,11 @@ import (
 	"sort"
 	"sync"
 
+	lru "github.com/hashicorp/golang-lru/v2"
 	"gonum.org/v1/gonum/graph/path"
 
 	"spanwright/geo"
+	"spanwright/route/optimize"
 )
 
 // Site is a campus read and noded once, shared read-only by every scenario planned on it.
@@ -18,7 +20,30 @@ type Site struct {
 
 	building map[string]*geo.Building
 	access   map[string]geo.Access
-	dist     sync.Map // building ID → map[string]float64, see distancesFrom
+	dist     sync.Map                                 // building ID → map[string]float64, see distancesFrom
+	solved   *lru.Cache[[32]byte, *optimize.Solution] // see solve
+}
+
+// solvedCacheSize bounds the optimizer solutions a site keeps: a sweep's scenarios often
+// share a routing problem (axes such as slack, growth or the budget that change no route
+// cost), and a bounded cache keeps a long sweep's memory flat when they do not.
+const solvedCacheSize = 64
+
+// solve runs the optimizer, or returns the solution of an identical problem solved before on
+// this site. Solve is deterministic, so the answer is the same either way; the returned
+// solution is shared and must not be modified.
+func (s *Site) solve(prob *optimize.Problem, opt optimize.Settings) (*optimize.Solution, error) {
+	key, ok := optimize.Fingerprint(prob, opt)
+	if ok {
+		if sol, hit := s.solved.Get(key); hit {
+			return sol, nil
+		}
+	}
+	sol, err := optimize.Solve(prob, opt)
+	if err == nil && ok {
+		s.solved.Add(key, sol)
+	}
+	return sol, err
 }
 
 // SiteOptions are the noding options a site is built with.
@@ -52,6 +77,7 @@ func NewSite(c *geo.Campus, net *geo.Network) *Site {
 	s := &Site{Campus: c, Net: net, Graph: NewGraph(net),
 		building: make(map[string]*geo.Building, len(c.Buildings)),
 		access:   make(map[string]geo.Access, len(net.Access))}
+	s.solved, _ = lru.New[[32]byte, *optimize.Solution](solvedCacheSize) // errs only on size <= 0
 	for i := range c.Buildings {
 		s.building[c.Buildings[i].ID] = &c.Buildings[i]
 	}

@@ -1,6 +1,7 @@
 package route
 
 import (
+	"context"
 	"fmt"
 	"math"
 	"strings"
@@ -155,4 +156,68 @@ func TestGraphParallelSpans(t *testing.T) {
 	if d := path.DijkstraFrom(g2.Node(a), g2).WeightTo(c); math.Abs(d-want) > 0.5 {
 		t.Errorf("A to C without ST: got %.2f m, want about %.1f m over the parallel duct", d, want)
 	}
+}
+
+// TestSolvedCache plans the demo twice on one site and once on a fresh site: the second plan
+// reuses the first's optimizer solution and all three write the same bytes; a plan whose
+// routing problem differs (another objective) is solved afresh.
+func TestSolvedCache(t *testing.T) {
+	s, p := demoSite(t)
+	fresh, _ := demoSiteFresh(t)
+	eng, err := Engine(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	s.solved.Purge()
+	render := func(site *Site, p *Plan) map[string]string {
+		t.Helper()
+		res, err := SolveWith(context.Background(), site, p, eng)
+		if err != nil {
+			t.Fatal(err)
+		}
+		files, err := res.Outputs(WriteOptions{SkipWorkbook: true})
+		if err != nil {
+			t.Fatal(err)
+		}
+		out := map[string]string{}
+		for _, f := range files {
+			out[f.Name] = string(f.Data)
+		}
+		return out
+	}
+	first := render(s, p)
+	if s.solved.Len() != 1 {
+		t.Fatalf("cache holds %d solutions after one plan, want 1", s.solved.Len())
+	}
+	second := render(s, p)
+	if s.solved.Len() != 1 {
+		t.Fatalf("cache holds %d solutions after the same plan twice, want 1", s.solved.Len())
+	}
+	third := render(fresh, p)
+	for name, data := range first {
+		if second[name] != data || third[name] != data {
+			t.Errorf("%s differs between a cached and a fresh solve", name)
+		}
+	}
+	q := *p
+	q.Design.Objective = "length"
+	render(s, &q)
+	if s.solved.Len() != 2 {
+		t.Errorf("cache holds %d solutions after a plan with another objective, want 2", s.solved.Len())
+	}
+}
+
+// demoSiteFresh loads the demo campus into a site of its own.
+func demoSiteFresh(tb testing.TB) (*Site, *Plan) {
+	tb.Helper()
+	_, p := demoSite(tb)
+	files := make([]string, len(p.Campus))
+	for i, f := range p.Campus {
+		files[i] = p.Path(f)
+	}
+	s, err := LoadSite(nil, files, SiteOptions{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM})
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return s, p
 }

@@ -209,7 +209,7 @@ func SolveWith(ctx context.Context, s *Site, p *Plan, eng *media.Engine) (*Resul
 	if err != nil {
 		return nil, err
 	}
-	sol, err := optimize.Solve(prob, optimize.Settings{Objective: p.Design.Objective})
+	sol, err := s.solve(prob, optimize.Settings{Objective: p.Design.Objective})
 	if err != nil {
 		return nil, fmt.Errorf("route: optimizer: %w", err)
 	}

@@ -1,0 +1,79 @@
+package optimize
+
+import (
+	"crypto/sha256"
+	"encoding/binary"
+	"math"
+)
+
+// Fingerprint is the SHA-256 of everything Solve's answer depends on: the problem's nodes,
+// edges, demands and their options, AllowNew, and the settings. Solve is deterministic, so
+// two calls with the same fingerprint return the same solution; callers that plan many
+// variants of one campus (a sweep) use it to solve each distinct problem once. ok is false
+// when the problem has a custom Fits function, which cannot be fingerprinted.
+func Fingerprint(p *Problem, opt Settings) (sum [sha256.Size]byte, ok bool) {
+	if p.Fits != nil {
+		return sum, false
+	}
+	f := fingerprinter{b: make([]byte, 0, 64*len(p.Edges)+96*len(p.Demands)+64)}
+	f.str(opt.Objective)
+	f.int(int64(opt.MaxRounds))
+	f.int(int64(p.Nodes))
+	f.bool(p.AllowNew)
+	f.int(int64(len(p.Edges)))
+	for i := range p.Edges {
+		e := &p.Edges[i]
+		f.str(e.ID)
+		f.int(int64(e.From))
+		f.int(int64(e.To))
+		f.float(e.LengthM)
+		f.int(e.LabourPerMCents)
+		f.bool(e.Proposed)
+		f.int(e.FixedCents)
+		f.int(int64(e.Group))
+		f.uint(e.Flags)
+		f.int(int64(e.Ducts))
+		f.float(e.DuctIDMM)
+		f.int(e.AddDuctPerMCents)
+	}
+	f.int(int64(len(p.Demands)))
+	for i := range p.Demands {
+		d := &p.Demands[i]
+		f.str(d.ID)
+		f.int(int64(d.Source))
+		f.int(int64(d.Target))
+		f.bool(d.Diverse)
+		f.int(int64(len(d.Options)))
+		for j := range d.Options {
+			o := &d.Options[j]
+			f.str(o.Name)
+			f.int(o.CablePerMCents)
+			f.int(o.FixedCents)
+			f.float(o.MaxRouteM)
+			f.uint(o.ExcludeFlags)
+			f.float(o.CableODMM)
+		}
+	}
+	return sha256.Sum256(f.b), true
+}
+
+// fingerprinter appends fields in a fixed binary form: integers and float bits as 8 bytes,
+// strings length-prefixed, so no two different field sequences give the same bytes.
+type fingerprinter struct{ b []byte }
+
+func (f *fingerprinter) uint(v uint64) { f.b = binary.LittleEndian.AppendUint64(f.b, v) }
+func (f *fingerprinter) int(v int64)   { f.uint(uint64(v)) }
+func (f *fingerprinter) float(v float64) {
+	if v == 0 {
+		v = 0 // -0 and +0 solve alike
+	}
+	f.uint(math.Float64bits(v))
+}
+func (f *fingerprinter) str(s string) { f.int(int64(len(s))); f.b = append(f.b, s...) }
+func (f *fingerprinter) bool(v bool) {
+	if v {
+		f.b = append(f.b, 1)
+	} else {
+		f.b = append(f.b, 0)
+	}
+}

@@ -1,0 +1,100 @@
+package optimize
+
+import (
+	"math"
+	"reflect"
+	"testing"
+)
+
+// TestFingerprintCoversEveryField changes each field of a problem's edges, demands, options,
+// the problem and the settings in turn, and checks that the fingerprint changes: a field
+// added to these types without a line in Fingerprint fails here, as would a field the
+// fingerprint reads from the wrong place. Solve being deterministic (TestDeterminism) is what
+// makes a fingerprint a sound cache key.
+func TestFingerprintCoversEveryField(t *testing.T) {
+	p := randomInstance(7, 3, 4)
+	base, ok := Fingerprint(p, Settings{})
+	if !ok {
+		t.Fatal("no fingerprint for a problem without Fits")
+	}
+	if again, _ := Fingerprint(randomInstance(7, 3, 4), Settings{}); again != base {
+		t.Fatal("the same problem gave two fingerprints")
+	}
+	if len(p.Demands) == 0 || len(p.Demands[0].Options) == 0 || len(p.Edges) == 0 {
+		t.Fatal("instance too small for the test")
+	}
+	changed := func(what string, mutate func(q *Problem, s *Settings)) {
+		t.Helper()
+		q := clone(p)
+		var s Settings
+		mutate(q, &s)
+		if got, _ := Fingerprint(q, s); got == base {
+			t.Errorf("changing %s left the fingerprint as it was", what)
+		}
+	}
+	each := func(kind string, v reflect.Value, apply func(q *Problem) reflect.Value) {
+		for i := 0; i < v.NumField(); i++ {
+			name := v.Type().Field(i).Name
+			if kind == "Problem" && (name == "Fits" || name == "Edges" || name == "Demands") {
+				continue // Fits: no fingerprint at all (below); slices: their elements are checked
+			}
+			if kind == "Demand" && name == "Options" {
+				continue
+			}
+			changed(kind+"."+name, func(q *Problem, _ *Settings) { bump(apply(q).Field(i)) })
+		}
+	}
+	each("Problem", reflect.ValueOf(*p), func(q *Problem) reflect.Value { return reflect.ValueOf(q).Elem() })
+	each("Edge", reflect.ValueOf(p.Edges[0]), func(q *Problem) reflect.Value { return reflect.ValueOf(&q.Edges[0]).Elem() })
+	each("Demand", reflect.ValueOf(p.Demands[0]), func(q *Problem) reflect.Value { return reflect.ValueOf(&q.Demands[0]).Elem() })
+	each("Option", reflect.ValueOf(p.Demands[0].Options[0]), func(q *Problem) reflect.Value {
+		return reflect.ValueOf(&q.Demands[0].Options[0]).Elem()
+	})
+	st := reflect.TypeOf(Settings{})
+	for i := 0; i < st.NumField(); i++ {
+		changed("Settings."+st.Field(i).Name, func(_ *Problem, s *Settings) { bump(reflect.ValueOf(s).Elem().Field(i)) })
+	}
+	changed("the number of edges", func(q *Problem, _ *Settings) { q.Edges = q.Edges[:len(q.Edges)-1] })
+	changed("the number of options", func(q *Problem, _ *Settings) {
+		q.Demands[0].Options = append(q.Demands[0].Options, q.Demands[0].Options[0])
+	})
+
+	q := clone(p)
+	q.Fits = func(int, []float64, int) bool { return true }
+	if _, ok := Fingerprint(q, Settings{}); ok {
+		t.Error("a problem with a custom Fits got a fingerprint")
+	}
+}
+
+// clone copies a problem deeply enough for the test to change any field.
+func clone(p *Problem) *Problem {
+	q := *p
+	q.Edges = append([]Edge(nil), p.Edges...)
+	q.Demands = append([]Demand(nil), p.Demands...)
+	for i := range q.Demands {
+		q.Demands[i].Options = append([]Option(nil), p.Demands[i].Options...)
+	}
+	return &q
+}
+
+// bump changes a field's value.
+func bump(v reflect.Value) {
+	switch v.Kind() {
+	case reflect.String:
+		v.SetString(v.String() + "x")
+	case reflect.Int, reflect.Int64:
+		v.SetInt(v.Int() + 1)
+	case reflect.Uint64:
+		v.SetUint(v.Uint() ^ 1<<5)
+	case reflect.Float64:
+		if math.IsInf(v.Float(), 0) {
+			v.SetFloat(1)
+		} else {
+			v.SetFloat(v.Float() + 0.5)
+		}
+	case reflect.Bool:
+		v.SetBool(!v.Bool())
+	default:
+		panic("bump: unhandled kind " + v.Kind().String())
+	}
+}
