@@ -325,7 +325,7 @@ func (r *Result) pullPlan(i int, added map[string]bool) {
 				}
 			}
 		}
-		plan, err := install.Sections(steps, points, spec)
+		plan, err := s.pulls.Sections(steps, points, spec)
 		if err != nil {
 			e.Warnings = append(e.Warnings, fmt.Sprintf("%s %s: no pulling plan: %v", leg.Link.ID, leg.Name, err))
 			continue

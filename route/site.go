@@ -9,6 +9,7 @@ import (
 	"gonum.org/v1/gonum/graph/path"
 
 	"spanwright/geo"
+	"spanwright/media/install"
 	"spanwright/route/optimize"
 )
 
@@ -22,12 +23,17 @@ type Site struct {
 	access   map[string]geo.Access
 	dist     sync.Map                                 // building ID → map[string]float64, see distancesFrom
 	solved   *lru.Cache[[32]byte, *optimize.Solution] // see solve
+	pulls    *install.Memo                            // pull plans of duct runs, see Result.pullPlan
 }
 
 // solvedCacheSize bounds the optimizer solutions a site keeps: a sweep's scenarios often
 // share a routing problem (axes such as slack, growth or the budget that change no route
 // cost), and a bounded cache keeps a long sweep's memory flat when they do not.
 const solvedCacheSize = 64
+
+// pullCacheSize bounds the pull plans a site keeps: a few hundred scenarios' duct runs of a
+// mid-sized campus.
+const pullCacheSize = 8192
 
 // solve runs the optimizer, or returns the solution of an identical problem solved before on
 // this site. Solve is deterministic, so the answer is the same either way; the returned
@@ -78,6 +84,7 @@ func NewSite(c *geo.Campus, net *geo.Network) *Site {
 		building: make(map[string]*geo.Building, len(c.Buildings)),
 		access:   make(map[string]geo.Access, len(net.Access))}
 	s.solved, _ = lru.New[[32]byte, *optimize.Solution](solvedCacheSize) // errs only on size <= 0
+	s.pulls = install.NewMemo(pullCacheSize)
 	for i := range c.Buildings {
 		s.building[c.Buildings[i].ID] = &c.Buildings[i]
 	}
