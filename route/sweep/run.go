@@ -141,6 +141,7 @@ func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
 		return nil, err
 	}
 	rows, err := r.runAll(ctx, mine)
+	r.emptyTrash()
 	rep := &Report{Scenarios: len(f.Scenarios()), Run: len(mine)}
 	for i := range rows {
 		if rows[i].ID == "" {
@@ -197,6 +198,21 @@ type runner struct {
 
 	mu      sync.Mutex
 	skipped int
+	// trash lists replaced scenario folders, moved aside under temporary names and removed
+	// once the scenarios are done: deleting while writing slows inode allocation on some file
+	// systems (journal-less ext4 scans past recently deleted inodes), and a stopped sweep's
+	// leftovers are removed by clean at the next run.
+	trash []string
+}
+
+// emptyTrash removes the scenario folders publish replaced.
+func (r *runner) emptyTrash() {
+	r.mu.Lock()
+	defer r.mu.Unlock()
+	for _, d := range r.trash {
+		os.RemoveAll(d)
+	}
+	r.trash = nil
 }
 
 func newRunner(f *File, opt Options) (*runner, error) {
@@ -269,7 +285,7 @@ func (r *runner) clean(mine []Scenario) error {
 }
 
 // writersPerJob is how many scenario folders may be written at once per planning worker:
-// writing waits on the disk (every file is synced), so it runs beside the planning.
+// writing waits on the file system, so it runs beside the planning.
 const writersPerJob = 4
 
 // outcome is a planned scenario: its row and the folder to write (nil when kept as it was).
@@ -527,7 +543,8 @@ func (r *runner) publish(id string, files []route.OutputFile) error {
 	}
 	err = os.Rename(tmp, final)
 	if err != nil {
-		// An older folder is in the way: move it aside, put the new one in place, drop it.
+		// An older folder is in the way: move it aside, put the new one in place, and drop
+		// the old one when the scenarios are done (see runner.trash).
 		old := tmp + "-old"
 		if err2 := os.Rename(final, old); err2 != nil {
 			os.RemoveAll(tmp)
@@ -538,7 +555,9 @@ func (r *runner) publish(id string, files []route.OutputFile) error {
 			os.RemoveAll(tmp)
 			return fmt.Errorf("scenario %s: %w", id, err)
 		}
-		os.RemoveAll(old)
+		r.mu.Lock()
+		r.trash = append(r.trash, old)
+		r.mu.Unlock()
 	}
 	return nil
 }
