@@ -157,9 +157,14 @@ func Engine(p *Plan) (*media.Engine, error) {
 	if len(errs) > 0 {
 		return nil, &ErrorList{Errs: errs}
 	}
-	return media.NewEngine(cat, rules, prices, media.EngineOptions{
-		LossMarginDB: p.Design.LossMarginDB, AllowOutdoorCopper: p.Design.AllowOutdoorCopper,
-		PairLossDB: p.Design.PairLossDB, SpliceLossDB: p.Design.SpliceLossDB})
+	return media.NewEngine(cat, rules, prices, EngineOptions(p))
+}
+
+// EngineOptions are the options of a plan's media engine, from its design section: with
+// the catalog, rule and price files, all that Engine reads.
+func EngineOptions(p *Plan) media.EngineOptions {
+	return media.EngineOptions{LossMarginDB: p.Design.LossMarginDB, AllowOutdoorCopper: p.Design.AllowOutdoorCopper,
+		PairLossDB: p.Design.PairLossDB, SpliceLossDB: p.Design.SpliceLossDB}
 }
 
 // Solve plans p on the site with the plan's own engine (see Engine).

@@ -16,29 +16,53 @@ import (
 // benchSizes are the axes' lengths of each benchmarked sweep size.
 var benchSizes = map[int][3]int{100: {5, 5, 4}, 1000: {10, 10, 10}}
 
-// benchFile writes a sweep of the demo campus with n scenarios into a temporary folder: the
-// product of strand counts, growth fractions and slack lengths, none of which changes the
-// network, so the site is built once.
-func benchFile(b *testing.B, n int) *File {
+// benchFile writes a sweep of the demo campus with n scenarios into a temporary folder. None
+// of its axes changes the network, so the site is built once. By default the axes are strand
+// counts, growth fractions and slack lengths, which share 100 routing problems between them
+// (growth mostly rounds to the same cables), as sweeps over design options do. With distinct
+// set they are 100 price books of different labour rates and ten slack lengths: every
+// scenario is a routing problem of its own and every tenth uses another media engine, the
+// worst case for what a sweep remembers between scenarios.
+func benchFile(b *testing.B, n int, distinct bool) *File {
 	b.Helper()
 	dims := benchSizes[n]
 	base, err := filepath.Abs("../../testdata/demo/plan.yaml")
 	if err != nil {
 		b.Fatal(err)
 	}
-	var strands, growth, slack []string
-	for i := 0; i < dims[0]; i++ {
-		strands = append(strands, fmt.Sprint(6+6*i))
+	dir := b.TempDir()
+	var axes []string
+	axis := func(key string, n int, value func(i int) string) {
+		var vs []string
+		for i := 0; i < n; i++ {
+			vs = append(vs, value(i))
+		}
+		axes = append(axes, fmt.Sprintf("  %s: [%s]\n", key, strings.Join(vs, ", ")))
 	}
-	for i := 0; i < dims[1]; i++ {
-		growth = append(growth, fmt.Sprint(float64(i)/10))
+	if distinct {
+		book, err := os.ReadFile("../../media/prices-demo.yaml")
+		if err != nil {
+			b.Fatal(err)
+		}
+		axis("prices", dims[0]*dims[1], func(i int) string {
+			name := fmt.Sprintf("prices-%d.yaml", i)
+			rate := fmt.Sprintf("hourly_rate: %d.00", 40+i)
+			data := strings.Replace(string(book), "hourly_rate: 92.00", rate, 1)
+			if !strings.Contains(data, rate) {
+				b.Fatal("the demo price book has no hourly_rate: 92.00 to change")
+			}
+			if err := os.WriteFile(filepath.Join(dir, name), []byte(data), 0o644); err != nil {
+				b.Fatal(err)
+			}
+			return name
+		})
+	} else {
+		axis("defaults.strands", dims[0], func(i int) string { return fmt.Sprint(6 + 6*i) })
+		axis("defaults.growth", dims[1], func(i int) string { return fmt.Sprint(float64(i) / 10) })
 	}
-	for i := 0; i < dims[2]; i++ {
-		slack = append(slack, fmt.Sprint(2+i))
-	}
-	src := fmt.Sprintf("base: %s\nvary:\n  defaults.strands: [%s]\n  defaults.growth: [%s]\n  design.slack_m: [%s]\n",
-		base, strings.Join(strands, ", "), strings.Join(growth, ", "), strings.Join(slack, ", "))
-	path := filepath.Join(b.TempDir(), fmt.Sprintf("sweep-%d.yaml", n))
+	axis("design.slack_m", dims[2], func(i int) string { return fmt.Sprint(2 + i) })
+	src := "base: " + base + "\nvary:\n" + strings.Join(axes, "")
+	path := filepath.Join(dir, fmt.Sprintf("sweep-%d.yaml", n))
 	if err := os.WriteFile(path, []byte(src), 0o644); err != nil {
 		b.Fatal(err)
 	}
@@ -55,16 +79,19 @@ func benchFile(b *testing.B, n int) *File {
 func BenchmarkSweep(b *testing.B) {
 	defer debug.SetGCPercent(debug.SetGCPercent(400))
 	for _, bc := range []struct {
-		n    int
-		full bool
-	}{{100, false}, {1000, false}, {100, true}} {
+		n              int
+		full, distinct bool
+	}{{100, false, false}, {1000, false, false}, {1000, false, true}, {100, true, false}} {
 		name := fmt.Sprintf("scenarios_%d", bc.n)
+		if bc.distinct {
+			name += "_distinct"
+		}
 		if bc.full {
 			name += "_workbooks"
 		}
 		b.Run(name, func(b *testing.B) {
 			n := bc.n
-			f := benchFile(b, n)
+			f := benchFile(b, n, bc.distinct)
 			if len(f.Scenarios()) != n {
 				b.Fatalf("got %d scenarios, want %d", len(f.Scenarios()), n)
 			}

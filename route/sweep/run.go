@@ -15,6 +15,7 @@ import (
 	"strings"
 	"sync"
 
+	lru "github.com/hashicorp/golang-lru/v2"
 	"go.yaml.in/yaml/v3"
 
 	"spanwright/media"
@@ -189,9 +190,9 @@ type runner struct {
 	out     string // output folder, as given
 	absOut  string
 	protect []string
-	sites   siteCache
-	engines engineCache
-	hashes  hashCache
+	sites   onceCache[*route.Site]
+	engines onceCache[*media.Engine]
+	hashes  onceCache[string]
 	// rebaseSweep and rebaseBase turn a file name relative to the sweep file's folder, or to
 	// the base plan's, into one relative to a scenario folder.
 	rebaseSweep, rebaseBase func(string) string
@@ -248,9 +249,9 @@ func newRunner(f *File, opt Options) (*runner, error) {
 	}
 	r := &runner{f: f, opt: opt, out: filepath.Clean(opt.Out), absOut: out, rebaseSweep: rebase(sweepDir), rebaseBase: rebase(baseDir)}
 	r.protect = []string{f.Path, f.Base}
-	r.sites.m = map[string]*siteEntry{}
-	r.hashes.m = map[string]*hashEntry{}
-	r.engines.m = map[string]*engineEntry{}
+	r.sites = newOnceCache[*route.Site](siteCacheSize)
+	r.engines = newOnceCache[*media.Engine](engineCacheSize)
+	r.hashes = newOnceCache[string](hashCacheSize)
 	return r, nil
 }
 
@@ -419,11 +420,11 @@ func (r *runner) scenario(ctx context.Context, sc Scenario) (outcome, error) {
 			return out, nil
 		}
 	}
-	site, err := r.sites.get(p)
+	site, err := r.site(p)
 	if err != nil {
 		return fail(err)
 	}
-	eng, err := r.engines.get(p)
+	eng, err := r.engine(p)
 	if err != nil {
 		return fail(err)
 	}
@@ -501,7 +502,7 @@ func (r *runner) inputsFile(p *route.Plan, planData []byte) ([]byte, error) {
 		}
 	}
 	for _, n := range names {
-		h, err := r.hashes.get(p.Path(n))
+		h, err := r.hash(p.Path(n))
 		if err != nil {
 			return nil, err
 		}
@@ -562,19 +563,49 @@ func (r *runner) publish(id string, files []route.OutputFile) error {
 	return nil
 }
 
-// siteCache holds one site per campus and noding options, built once and shared read-only.
-type siteCache struct {
-	mu sync.Mutex
-	m  map[string]*siteEntry
+// onceCache builds each value once per key and keeps the most recently used few, so that a
+// sweep over many campus variants or price books keeps its memory flat; a value dropped and
+// asked for again is built again, with the same result. It is safe for concurrent use:
+// callers asking for the same key at once share one build.
+type onceCache[V any] struct {
+	c *lru.Cache[string, *onceEntry[V]]
 }
 
-type siteEntry struct {
+type onceEntry[V any] struct {
 	once sync.Once
-	site *route.Site
+	v    V
 	err  error
 }
 
-func (c *siteCache) get(p *route.Plan) (*route.Site, error) {
+func newOnceCache[V any](size int) onceCache[V] {
+	c, _ := lru.New[string, *onceEntry[V]](size) // errs only on a size <= 0
+	return onceCache[V]{c: c}
+}
+
+func (c onceCache[V]) get(key string, build func() (V, error)) (V, error) {
+	e, ok := c.c.Get(key)
+	if !ok {
+		e = &onceEntry[V]{}
+		if prev, found, _ := c.c.PeekOrAdd(key, e); found {
+			e = prev
+		}
+	}
+	e.once.Do(func() { e.v, e.err = build() })
+	return e.v, e.err
+}
+
+// Bounds of the runner's caches: sites are large and a sweep rarely varies the campus;
+// engines (a catalog, rules and a price book each) are smaller and price books are a common
+// axis; file hashes are tiny.
+const (
+	siteCacheSize   = 4
+	engineCacheSize = 32
+	hashCacheSize   = 4096
+)
+
+// site returns the site of the plan's campus files and noding options, built once and
+// shared read-only.
+func (r *runner) site(p *route.Plan) (*route.Site, error) {
 	files := make([]string, len(p.Campus))
 	for i, f := range p.Campus {
 		files[i] = p.Path(f)
@@ -589,67 +620,29 @@ func (c *siteCache) get(p *route.Plan) (*route.Site, error) {
 		key.WriteString(abs + "\x00")
 	}
 	key.WriteString(strconv.FormatFloat(opt.SnapM, 'g', -1, 64) + "\x00" + strconv.FormatFloat(opt.MaxLateralM, 'g', -1, 64))
-	c.mu.Lock()
-	e := c.m[key.String()]
-	if e == nil {
-		e = &siteEntry{}
-		c.m[key.String()] = e
-	}
-	c.mu.Unlock()
-	e.once.Do(func() { e.site, e.err = route.LoadSite(nil, files, opt) })
-	return e.site, e.err
+	return r.sites.get(key.String(), func() (*route.Site, error) { return route.LoadSite(nil, files, opt) })
 }
 
-// hashCache holds the SHA-256 of each input file, read once per sweep.
-type hashCache struct {
-	mu sync.Mutex
-	m  map[string]*hashEntry
-}
-
-type hashEntry struct {
-	once sync.Once
-	sum  string
-	err  error
-}
-
-func (c *hashCache) get(path string) (string, error) {
+// hash returns the SHA-256 of an input file, read once per sweep.
+func (r *runner) hash(path string) (string, error) {
 	abs, err := filepath.Abs(path)
 	if err != nil {
 		abs = path
 	}
-	c.mu.Lock()
-	e := c.m[abs]
-	if e == nil {
-		e = &hashEntry{}
-		c.m[abs] = e
-	}
-	c.mu.Unlock()
-	e.once.Do(func() {
+	return r.hashes.get(abs, func() (string, error) {
 		data, err := os.ReadFile(path)
 		if err != nil {
-			e.err = err
-			return
+			return "", err
 		}
 		sum := sha256.Sum256(data)
-		e.sum = hex.EncodeToString(sum[:])
+		return hex.EncodeToString(sum[:]), nil
 	})
-	return e.sum, e.err
 }
 
-// engineCache holds one media engine per catalog, rule and price files and design section:
-// route.Engine reads only those, and an engine is safe for concurrent use.
-type engineCache struct {
-	mu sync.Mutex
-	m  map[string]*engineEntry
-}
-
-type engineEntry struct {
-	once sync.Once
-	eng  *media.Engine
-	err  error
-}
-
-func (c *engineCache) get(p *route.Plan) (*media.Engine, error) {
+// engine returns the media engine of the plan's catalog, rule and price files and engine
+// options (route.Engine reads only those), built once and shared: an engine is safe for
+// concurrent use.
+func (r *runner) engine(p *route.Plan) (*media.Engine, error) {
 	var key strings.Builder
 	for _, f := range []string{p.Catalog, p.Rules, p.Prices} {
 		if f != "" {
@@ -659,14 +652,6 @@ func (c *engineCache) get(p *route.Plan) (*media.Engine, error) {
 		}
 		key.WriteString(f + "\x00")
 	}
-	fmt.Fprintf(&key, "%#v", p.Design)
-	c.mu.Lock()
-	e := c.m[key.String()]
-	if e == nil {
-		e = &engineEntry{}
-		c.m[key.String()] = e
-	}
-	c.mu.Unlock()
-	e.once.Do(func() { e.eng, e.err = route.Engine(p) })
-	return e.eng, e.err
+	fmt.Fprintf(&key, "%#v", route.EngineOptions(p))
+	return r.engines.get(key.String(), func() (*media.Engine, error) { return route.Engine(p) })
 }
