@@ -1,13 +1,14 @@
 package route
 
 import (
-	"bytes"
 	"errors"
 	"fmt"
 	"math"
 	"os"
 	"path/filepath"
+	"reflect"
 	"sort"
+	"strconv"
 	"strings"
 
 	"go.yaml.in/yaml/v3"
@@ -228,13 +229,7 @@ func decodeStrict(n *yaml.Node, p *Plan, file string) []error {
 				err = v.Decode(&p.Campus)
 			}
 		default:
-			var buf bytes.Buffer
-			enc := yaml.NewEncoder(&buf)
-			if err = enc.Encode(v); err == nil {
-				dec := yaml.NewDecoder(&buf)
-				dec.KnownFields(true)
-				err = dec.Decode(fieldOf(p, k.Value))
-			}
+			err = decodeKnown(v, fieldOf(p, k.Value))
 		}
 		if err != nil {
 			errs = append(errs, &PlanError{File: file, Line: v.Line, Key: k.Value, Err: fmt.Errorf("%w: %v", ErrPlan, cleanYAMLErr(err))})
@@ -272,19 +267,62 @@ func decodeLinks(n *yaml.Node, p *Plan) error {
 	p.Links = nil
 	for _, item := range n.Content {
 		var ls LinkSpec
-		var buf bytes.Buffer
-		if err := yaml.NewEncoder(&buf).Encode(item); err != nil {
-			return err
-		}
-		dec := yaml.NewDecoder(&buf)
-		dec.KnownFields(true)
-		if err := dec.Decode(&ls); err != nil {
+		if err := decodeKnown(item, &ls); err != nil {
 			return fmt.Errorf("link at line %d: %v", item.Line, cleanYAMLErr(err))
 		}
 		ls.Line = item.Line
 		p.Links = append(p.Links, ls)
 	}
 	return nil
+}
+
+// decodeKnown decodes n into out, a pointer, as a yaml.Decoder with KnownFields does: a key
+// of a mapping that names no field of the struct it fills is an error. The errors come as
+// one *yaml.TypeError in line order, each with its line in the plan file.
+func decodeKnown(n *yaml.Node, out any) error {
+	var msgs []string
+	if t := reflect.TypeOf(out).Elem(); t.Kind() == reflect.Struct && n.Kind == yaml.MappingNode {
+		fields := map[string]bool{}
+		for i := 0; i < t.NumField(); i++ {
+			name, _, _ := strings.Cut(t.Field(i).Tag.Get("yaml"), ",")
+			if name == "" {
+				name = strings.ToLower(t.Field(i).Name)
+			}
+			if name != "-" {
+				fields[name] = true
+			}
+		}
+		for i := 0; i+1 < len(n.Content); i += 2 {
+			k := n.Content[i]
+			if !fields[k.Value] && k.Tag != "!!merge" {
+				msgs = append(msgs, fmt.Sprintf("line %d: field %s not found in type %s", k.Line, k.Value, t))
+			}
+		}
+	}
+	err := n.Decode(out)
+	if len(msgs) == 0 {
+		return err
+	}
+	var te *yaml.TypeError
+	if err != nil {
+		if !errors.As(err, &te) {
+			return err
+		}
+		msgs = append(msgs, te.Errors...)
+	}
+	sort.SliceStable(msgs, func(i, j int) bool { return msgLine(msgs[i]) < msgLine(msgs[j]) })
+	return &yaml.TypeError{Errors: msgs}
+}
+
+// msgLine is the line number a YAML decoding message starts with, or 0.
+func msgLine(m string) int {
+	rest, ok := strings.CutPrefix(m, "line ")
+	if !ok {
+		return 0
+	}
+	num, _, _ := strings.Cut(rest, ":")
+	n, _ := strconv.Atoi(num)
+	return n
 }
 
 func cleanYAMLErr(err error) string {

@@ -60,6 +60,10 @@ func TestParsePlanErrors(t *testing.T) {
 		{"bad redundancy", "campus: [c]\ndefaults: {redundancy: double}\n", []string{`defaults.redundancy: invalid plan: want "none" or "diverse", got "double"`}},
 		{"link without to", "campus: [c]\nlinks:\n  - {from: A}\n", []string{"plan.yaml:3: links: invalid plan: a link needs to:"}},
 		{"bad objective", "campus: [c]\ndesign: {objective: speed}\n", []string{`design.objective`, `got "speed"`}},
+		// Decoding messages carry the line in the plan file, in line order, unknown fields and
+		// bad values together.
+		{"nested problems on their own lines", "campus: [c]\ndesign:\n  snap: 2\n  loss_margin_db: lots\n  pull_mu: 0.3\n  slak_m: 1\n",
+			[]string{"line 3: field snap not found in type route.Design; line 4: cannot unmarshal !!str `lots` into float64; line 6: field slak_m not found"}},
 		{"several problems at once", "campus: [c]\ndefaults: {strands: 0, growth: -1}\ndesign: {snap_m: 0}\n",
 			[]string{"defaults.strands", "defaults.growth", "design.snap_m"}},
 	}

@@ -197,6 +197,11 @@ type runner struct {
 	// the base plan's, into one relative to a scenario folder.
 	rebaseSweep, rebaseBase func(string) string
 
+	// baseDoc is the base plan parsed once; each scenario edits a copy.
+	baseOnce sync.Once
+	baseDoc  yaml.Node
+	baseErr  error
+
 	mu      sync.Mutex
 	skipped int
 	// trash lists replaced scenario folders, moved aside under temporary names and removed
@@ -462,10 +467,11 @@ func (r *runner) scenario(ctx context.Context, sc Scenario) (outcome, error) {
 // planYAML renders the scenario's plan: the base plan with file names made relative to the
 // scenario folder and the overrides applied, headed by a comment naming the scenario.
 func (r *runner) planYAML(sc Scenario) ([]byte, error) {
-	var doc yaml.Node
-	if err := yaml.Unmarshal(r.f.baseData, &doc); err != nil {
-		return nil, fmt.Errorf("%s: %w", r.f.Base, err) // checked by Parse
+	r.baseOnce.Do(func() { r.baseErr = yaml.Unmarshal(r.f.baseData, &r.baseDoc) })
+	if r.baseErr != nil {
+		return nil, fmt.Errorf("%s: %w", r.f.Base, r.baseErr) // checked by Parse
 	}
+	doc := cloneNode(&r.baseDoc)
 	root := doc.Content[0]
 	rebasePlanPaths(root, r.rebaseBase)
 	apply(root, sc.Set, r.rebaseSweep)
@@ -478,13 +484,38 @@ func (r *runner) planYAML(sc Scenario) ([]byte, error) {
 	var b bytes.Buffer
 	enc := yaml.NewEncoder(&b)
 	enc.SetIndent(2)
-	if err := enc.Encode(&doc); err != nil {
+	if err := enc.Encode(doc); err != nil {
 		return nil, fmt.Errorf("scenario %s: %w", sc.ID, err)
 	}
 	if err := enc.Close(); err != nil {
 		return nil, err
 	}
 	return b.Bytes(), nil
+}
+
+// cloneNode copies a YAML node tree deeply; alias nodes point into the copy.
+func cloneNode(n *yaml.Node) *yaml.Node {
+	copies := map[*yaml.Node]*yaml.Node{}
+	var clone func(*yaml.Node) *yaml.Node
+	clone = func(n *yaml.Node) *yaml.Node {
+		if n == nil {
+			return nil
+		}
+		if c, ok := copies[n]; ok {
+			return c
+		}
+		c := *n
+		copies[n] = &c
+		if n.Content != nil {
+			c.Content = make([]*yaml.Node, len(n.Content))
+			for i, k := range n.Content {
+				c.Content[i] = clone(k)
+			}
+		}
+		c.Alias = clone(n.Alias)
+		return &c
+	}
+	return clone(n)
 }
 
 // inputsFile renders inputs.sha256 in the format of GNU sha256sum: one "hash  name" line

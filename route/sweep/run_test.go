@@ -14,6 +14,7 @@ import (
 	"testing"
 
 	"github.com/xuri/excelize/v2"
+	"go.yaml.in/yaml/v3"
 
 	"spanwright/route"
 )
@@ -453,4 +454,36 @@ func TestCompareXLSX(t *testing.T) {
 func cellRef(col, row int) string {
 	name, _ := excelize.CoordinatesToCellName(col+1, row)
 	return name
+}
+
+// TestCloneNode checks that a scenario's copy of the base plan encodes as the original, anchors
+// and aliases included, and that editing the copy leaves the original as it was.
+func TestCloneNode(t *testing.T) {
+	t.Parallel()
+	src := "# head\nname: x # side\nd: &d {rate: 10G}\nlinks:\n  - *d\n  - {to: A}\n"
+	var doc yaml.Node
+	if err := yaml.Unmarshal([]byte(src), &doc); err != nil {
+		t.Fatal(err)
+	}
+	enc := func(n *yaml.Node) string {
+		out, err := yaml.Marshal(n)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return string(out)
+	}
+	want := enc(&doc)
+	c := cloneNode(&doc)
+	if got := enc(c); got != want {
+		t.Errorf("copy encodes as\n%s\nwant\n%s", got, want)
+	}
+	links := c.Content[0].Content[5]
+	if links.Content[0].Alias != c.Content[0].Content[3] {
+		t.Error("the copy's alias points outside the copy")
+	}
+	c.Content[0].Content[1].Value = "changed"
+	c.Content[0].Content[3].Content[1].Value = "25G"
+	if got := enc(&doc); got != want {
+		t.Errorf("editing the copy changed the original:\n%s", got)
+	}
 }
