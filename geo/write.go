@@ -7,7 +7,9 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"slices"
 	"strconv"
+	"unicode/utf8"
 
 	"github.com/paulmach/orb"
 )
@@ -215,18 +217,144 @@ func writeFeature(buf *bytes.Buffer, g orb.Geometry, props map[string]any) error
 		buf.WriteString("null")
 	}
 	buf.WriteString(`,"properties":`)
-	if props == nil {
-		props = map[string]any{}
+	out, err := appendProps(buf.AvailableBuffer(), props)
+	if err != nil {
+		return fmt.Errorf("properties: %w", err)
+	}
+	buf.Write(out)
+	buf.WriteString(`}`)
+	return nil
+}
+
+// appendProps appends props as a JSON object, byte for byte as encoding/json writes a map
+// with HTML escaping off: keys sorted, strings, numbers, booleans and string lists written
+// here (routes have thousands of them), any other value by encoding/json.
+func appendProps(b []byte, props map[string]any) ([]byte, error) {
+	keys := make([]string, 0, len(props))
+	for k := range props {
+		keys = append(keys, k)
+	}
+	slices.Sort(keys)
+	b = append(b, '{')
+	for i, k := range keys {
+		if i > 0 {
+			b = append(b, ',')
+		}
+		b = appendJSONString(b, k)
+		b = append(b, ':')
+		var err error
+		if b, err = appendJSONValue(b, props[k]); err != nil {
+			return nil, err
+		}
+	}
+	return append(b, '}'), nil
+}
+
+func appendJSONValue(b []byte, v any) ([]byte, error) {
+	switch x := v.(type) {
+	case string:
+		return appendJSONString(b, x), nil
+	case bool:
+		return strconv.AppendBool(b, x), nil
+	case int:
+		return strconv.AppendInt(b, int64(x), 10), nil
+	case int64:
+		return strconv.AppendInt(b, x, 10), nil
+	case float64:
+		if !math.IsNaN(x) && !math.IsInf(x, 0) {
+			return appendJSONFloat(b, x), nil
+		}
+	case []string:
+		if x == nil {
+			return append(b, "null"...), nil
+		}
+		b = append(b, '[')
+		for i, s := range x {
+			if i > 0 {
+				b = append(b, ',')
+			}
+			b = appendJSONString(b, s)
+		}
+		return append(b, ']'), nil
 	}
 	var pb bytes.Buffer
 	enc := json.NewEncoder(&pb)
 	enc.SetEscapeHTML(false)
-	if err := enc.Encode(props); err != nil {
-		return fmt.Errorf("properties: %w", err)
+	if err := enc.Encode(v); err != nil {
+		return nil, err
 	}
-	buf.Write(bytes.TrimRight(pb.Bytes(), "\n"))
-	buf.WriteString(`}`)
-	return nil
+	return append(b, bytes.TrimRight(pb.Bytes(), "\n")...), nil
+}
+
+// appendJSONFloat writes a finite float as encoding/json does: the shortest decimal that
+// reads back the same, in exponent form below 1e-6 and from 1e21, with a one-digit negative
+// exponent where it has one digit.
+func appendJSONFloat(b []byte, f float64) []byte {
+	format := byte('f')
+	if a := math.Abs(f); a != 0 && (a < 1e-6 || a >= 1e21) {
+		format = 'e'
+	}
+	b = strconv.AppendFloat(b, f, format, -1, 64)
+	if format == 'e' {
+		if n := len(b); n >= 4 && b[n-4] == 'e' && b[n-3] == '-' && b[n-2] == '0' {
+			b[n-2] = b[n-1]
+			b = b[:n-1]
+		}
+	}
+	return b
+}
+
+// appendJSONString writes s as a JSON string as encoding/json does with HTML escaping off:
+// quote and backslash escaped, control characters as \b \f \n \r \t or \u00XX, invalid
+// UTF-8 as \ufffd, and U+2028 and U+2029 escaped.
+func appendJSONString(b []byte, s string) []byte {
+	const hex = "0123456789abcdef"
+	b = append(b, '"')
+	start := 0
+	for i := 0; i < len(s); {
+		if c := s[i]; c < utf8.RuneSelf {
+			if c >= 0x20 && c != '"' && c != '\\' {
+				i++
+				continue
+			}
+			b = append(b, s[start:i]...)
+			switch c {
+			case '\\', '"':
+				b = append(b, '\\', c)
+			case '\b':
+				b = append(b, '\\', 'b')
+			case '\f':
+				b = append(b, '\\', 'f')
+			case '\n':
+				b = append(b, '\\', 'n')
+			case '\r':
+				b = append(b, '\\', 'r')
+			case '\t':
+				b = append(b, '\\', 't')
+			default:
+				b = append(b, '\\', 'u', '0', '0', hex[c>>4], hex[c&0xF])
+			}
+			i++
+			start = i
+			continue
+		}
+		r, size := utf8.DecodeRuneInString(s[i:])
+		switch {
+		case r == utf8.RuneError && size == 1:
+			b = append(b, s[start:i]...)
+			b = append(b, `\ufffd`...)
+		case r == '\u2028' || r == '\u2029':
+			b = append(b, s[start:i]...)
+			b = append(b, '\\', 'u', '2', '0', '2', hex[r&0xF])
+		default:
+			i += size
+			continue
+		}
+		i += size
+		start = i
+	}
+	b = append(b, s[start:]...)
+	return append(b, '"')
 }
 
 func writePos(buf *bytes.Buffer, p orb.Point) {
