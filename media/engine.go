@@ -197,12 +197,12 @@ func strandsFor(l Link, a *Application, m *Medium) int {
 }
 
 // evaluate computes the facts of one candidate and applies the rules to it.
-func (e *Engine) evaluate(l Link, mi, ai, ki int) *candidate {
+func (e *Engine) evaluate(c *candidate, l Link, mi, ai, ki int) {
 	m, a := e.cat.Media[mi], e.cat.Applications[ai]
 	k := m.Constructions[ki]
 	r, _ := a.On(m.ID)
 	channel := l.ChannelM()
-	c := &candidate{m: m, a: a, k: k, r: r, mi: mi, ai: ai, ki: ki, failed: -1, strands: strandsFor(l, a, m)}
+	*c = candidate{m: m, a: a, k: k, r: r, mi: mi, ai: ai, ki: ki, failed: -1, strands: strandsFor(l, a, m)}
 	c.losses = Losses(k, a, r, channel, l.ConnectorPairs, l.Splices, e.design, e.field)
 	f := &c.f
 	f[fChannelM].num = channel
@@ -272,7 +272,6 @@ func (e *Engine) evaluate(l Link, mi, ai, ki int) *candidate {
 	if c.failed < 0 {
 		c.cableCents, c.costCents = e.cost(c, channel)
 	}
-	return c
 }
 
 // future fills the future_* facts: whether some application at the future rate on the same
@@ -425,6 +424,18 @@ func (e *Engine) choose(l Link) Choice {
 	if msg := checkLink(l); msg != "" {
 		return Choice{Reason: fmt.Sprintf("%s: bad facts: %s", linkName(l), msg)}
 	}
+	// The candidates are large (every fact of the rule language): one allocation for all.
+	n := 0
+	for _, a := range e.cat.Applications {
+		if a.RateGbps == l.RateGbps {
+			for _, m := range e.cat.Media {
+				if _, on := a.On(m.ID); on {
+					n += len(m.Constructions)
+				}
+			}
+		}
+	}
+	pool := make([]candidate, n)
 	var all, ok []*candidate
 	for ai, a := range e.cat.Applications {
 		if a.RateGbps != l.RateGbps {
@@ -435,7 +446,8 @@ func (e *Engine) choose(l Link) Choice {
 				continue
 			}
 			for ki := range m.Constructions {
-				c := e.evaluate(l, mi, ai, ki)
+				c := &pool[len(all)]
+				e.evaluate(c, l, mi, ai, ki)
 				all = append(all, c)
 				if c.failed < 0 {
 					ok = append(ok, c)
@@ -604,13 +616,14 @@ func withChannel(l Link, channelM float64) Link {
 func (e *Engine) feasibleAt(l Link, mi int, channelM float64) bool {
 	l = withChannel(l, channelM)
 	m := e.cat.Media[mi]
+	var c candidate
 	for ai, a := range e.cat.Applications {
 		r, on := a.On(m.ID)
 		if !on || a.RateGbps != l.RateGbps || channelM > r.RangeM {
 			continue
 		}
 		for ki := range m.Constructions {
-			if e.evaluate(l, mi, ai, ki).failed < 0 {
+			if e.evaluate(&c, l, mi, ai, ki); c.failed < 0 {
 				return true
 			}
 		}
