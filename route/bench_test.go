@@ -9,6 +9,8 @@ import (
 	"sync"
 	"testing"
 
+	"spanwright/media"
+
 	"spanwright/geo"
 )
 
@@ -45,14 +47,8 @@ func BenchmarkSolveDemo(b *testing.B) {
 	s, p := demoSite(b)
 	b.ReportAllocs()
 	for i := 0; i < b.N; i++ {
-		// Measure the whole plan, not the site's and the engine's memory of earlier answers.
 		b.StopTimer()
-		s.solved.Purge()
-		s.pulls.Purge()
-		eng, err := Engine(p)
-		if err != nil {
-			b.Fatal(err)
-		}
+		eng := forget(b, s, p)
 		b.StartTimer()
 		if _, err := SolveWith(context.Background(), s, p, eng); err != nil {
 			b.Fatal(err)
@@ -217,17 +213,29 @@ func BenchmarkPlan(b *testing.B) {
 		b.Run(fmt.Sprintf("buildings_%d", n), func(b *testing.B) {
 			s := synthSite(b, n)
 			p := synthPlan(s)
-			eng, err := Engine(p)
-			if err != nil {
-				b.Fatal(err)
-			}
 			b.ReportAllocs()
 			b.ResetTimer()
 			for i := 0; i < b.N; i++ {
+				b.StopTimer()
+				eng := forget(b, s, p)
+				b.StartTimer()
 				if _, err := SolveWith(context.Background(), s, p, eng); err != nil {
 					b.Fatal(err)
 				}
 			}
 		})
 	}
+}
+
+// forget clears what the site remembers of earlier plans and returns a new engine for p, so
+// that a benchmark measures a whole plan, not the memory of an earlier one.
+func forget(b *testing.B, s *Site, p *Plan) *media.Engine {
+	b.Helper()
+	s.solved.Purge()
+	s.pulls.Purge()
+	eng, err := Engine(p)
+	if err != nil {
+		b.Fatal(err)
+	}
+	return eng
 }
