@@ -9,9 +9,8 @@ import (
 	"sync"
 	"testing"
 
-	"spanwright/media"
-
 	"spanwright/geo"
+	"spanwright/media"
 )
 
 var demoOnce struct {
