@@ -81,7 +81,7 @@ func BenchmarkSweep(b *testing.B) {
 	for _, bc := range []struct {
 		n              int
 		full, distinct bool
-	}{{100, false, false}, {1000, false, false}, {1000, false, true}, {100, true, false}} {
+	}{{100, false, false}, {1000, false, false}, {100, false, true}, {1000, false, true}, {100, true, false}} {
 		name := fmt.Sprintf("scenarios_%d", bc.n)
 		if bc.distinct {
 			name += "_distinct"
