@@ -1,7 +1,9 @@
 package media
 
 import (
+	"crypto/sha256"
 	_ "embed"
+	"encoding/hex"
 	"fmt"
 	"io"
 	"math"
@@ -791,3 +793,11 @@ func joinInts(v []int, sep string) string {
 
 // finite reports whether x is a usable number.
 func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
+
+// EmbeddedSHA256 returns the SHA-256, in hex, of the embedded catalog, rule file and demo price
+// book: what a plan that names none of its own reads instead. A sweep records them so that a
+// resumed sweep plans again when they change with a new build.
+func EmbeddedSHA256() (catalog, rules, prices string) {
+	h := func(b []byte) string { s := sha256.Sum256(b); return hex.EncodeToString(s[:]) }
+	return h(catalogYAML), h(rulesYAML), h(pricesYAML)
+}

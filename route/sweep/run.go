@@ -476,6 +476,11 @@ func (r *runner) planYAML(sc Scenario) ([]byte, error) {
 	rebasePlanPaths(root, r.rebaseBase)
 	apply(root, sc.Set, r.rebaseSweep)
 	head := "scenario " + sc.ID + ": " + sc.Describe()
+	if b := builtIns(root); b != "" {
+		// Part of the plan's bytes, so a resumed sweep plans again when a new build changes
+		// the embedded files this scenario reads.
+		head += "\n" + b
+	}
 	if u := r.opt.Write.Units; u != "" && u != route.UnitsMetric {
 		// Part of the plan's bytes, so a resumed sweep in other units plans again.
 		head += "\noutputs written in " + u + " units"
@@ -491,6 +496,25 @@ func (r *runner) planYAML(sc Scenario) ([]byte, error) {
 		return nil, err
 	}
 	return b.Bytes(), nil
+}
+
+// builtIns names, with their SHA-256, the embedded files a plan reads because it names no
+// catalog, rule file or price book of its own; "" when it names all three.
+func builtIns(root *yaml.Node) string {
+	named := map[string]bool{}
+	for i := 0; i+1 < len(root.Content); i += 2 {
+		if v := root.Content[i+1]; v.Kind == yaml.ScalarNode && v.Value != "" && v.Tag != "!!null" {
+			named[root.Content[i].Value] = true
+		}
+	}
+	cat, rules, prices := media.EmbeddedSHA256()
+	var parts []string
+	for _, f := range []struct{ key, sum string }{{"catalog", cat}, {"rules", rules}, {"prices", prices}} {
+		if !named[f.key] {
+			parts = append(parts, "built-in "+f.key+" sha256 "+f.sum[:16])
+		}
+	}
+	return strings.Join(parts, ", ")
 }
 
 // cloneNode copies a YAML node tree deeply; alias nodes point into the copy.

@@ -3,7 +3,9 @@ package sweep
 import (
 	"bytes"
 	"context"
+	"crypto/sha256"
 	"encoding/csv"
+	"encoding/hex"
 	"errors"
 	"io/fs"
 	"os"
@@ -485,5 +487,37 @@ func TestCloneNode(t *testing.T) {
 	c.Content[0].Content[3].Content[1].Value = "25G"
 	if got := enc(&doc); got != want {
 		t.Errorf("editing the copy changed the original:\n%s", got)
+	}
+}
+
+// TestBuiltInsInPlan checks that a scenario's plan names, with their hashes, the embedded
+// files it reads (so that --resume plans again when a new build changes them), and leaves out
+// those the scenario names itself. The hashes are checked against the files in media/.
+func TestBuiltInsInPlan(t *testing.T) {
+	t.Parallel()
+	sum := func(path string) string {
+		data, err := os.ReadFile(path)
+		if err != nil {
+			t.Fatal(err)
+		}
+		s := sha256.Sum256(data)
+		return hex.EncodeToString(s[:])[:16]
+	}
+	f := parseInline(t, "cases: [{name: own, prices: prices-low.yaml}, {name: embedded}]")
+	out := t.TempDir()
+	run(t, f, Options{Out: out})
+	files := tree(t, out)
+	own, embedded := string(files[f.Scenarios()[0].ID+"/"+PlanFile]), string(files[f.Scenarios()[1].ID+"/"+PlanFile])
+	for _, w := range []string{"built-in catalog sha256 " + sum("../../media/catalog.yaml"), "built-in rules sha256 " + sum("../../media/rules.yaml")} {
+		if !strings.Contains(own, w) || !strings.Contains(embedded, w) {
+			t.Errorf("scenario plans should both say %q:\n%s\n%s", w, own, embedded)
+		}
+	}
+	prices := "built-in prices sha256 " + sum("../../media/prices-demo.yaml")
+	if !strings.Contains(embedded, prices) {
+		t.Errorf("the scenario on the built-in price book should say %q:\n%s", prices, embedded)
+	}
+	if strings.Contains(own, "built-in prices") {
+		t.Errorf("the scenario with its own price book names the built-in one:\n%s", own)
 	}
 }
