@@ -3,19 +3,34 @@ package main
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"os"
 	"os/signal"
+	"sync/atomic"
 	"syscall"
 )
 
 func main() {
-	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
+	ctx, cancel := context.WithCancel(context.Background())
+	sigs := make(chan os.Signal, 1)
+	signal.Notify(sigs, os.Interrupt, syscall.SIGTERM)
+	var got atomic.Value // the signal that stopped the run
+	go func() {
+		s := <-sigs
+		got.Store(s)
+		cancel()
+	}()
 	app := newApp()
 	err := app.RunContext(ctx, intersperse(app, os.Args))
-	stop()
+	signal.Stop(sigs)
+	cancel()
 	if err != nil {
 		fmt.Fprintf(os.Stderr, "spanwright: %v\n", err)
 	}
-	os.Exit(exitCode(err))
+	code := exitCode(err)
+	if s, ok := got.Load().(syscall.Signal); ok && err != nil && errors.Is(err, context.Canceled) {
+		code = 128 + int(s) // the shell's convention: 130 for Ctrl-C, 143 for SIGTERM
+	}
+	os.Exit(code)
 }
