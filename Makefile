@@ -32,9 +32,10 @@ e2e:
 	test -x /usr/bin/chromium || (apt-get update && apt-get install -y chromium)
 	$(GO) test -count=1 -tags e2e -v ./testdata/e2e/
 
-# a minute of coverage-guided fuzzing of the GeoJSON reader
+# a minute of coverage-guided fuzzing of the GeoJSON reader, and one of the plan reader
 fuzz:
 	$(GO) test -run '^$$' -fuzz FuzzParse -fuzztime 60s ./geo/
+	$(GO) test -run '^$$' -fuzz FuzzParsePlan -fuzztime 60s ./route/
 
 clean:
 	rm -rf bin demo-out
