@@ -45,6 +45,7 @@ const (
 	PropDuctMM     = "duct_mm"
 	PropEMI        = "emi"
 	PropSurface    = "surface"
+	PropMethod     = "method"
 	PropGroup      = "group"
 	PropBuilding   = "building"
 )
@@ -83,6 +84,7 @@ type Pathway struct {
 	DuctMM     float64
 	EMI        string // EMINone, EMILow, EMIHigh
 	Surface    string // turf, asphalt, concrete or "" (for proposed work)
+	Method     string // MethodTrench or MethodBore: how new work along it is built
 	Group      string // shared-risk group; the pathway's own ID when absent
 	Lines      orb.MultiLineString
 }

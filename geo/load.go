@@ -28,6 +28,13 @@ const (
 	SurfaceConcrete = "concrete"
 )
 
+// Methods of new work along a pathway, the values of its "method" property: how a proposed
+// pathway is built, and how ducts added beside an existing one are.
+const (
+	MethodTrench = "trench" // open trench, with restoration of the surface (the default)
+	MethodBore   = "bore"   // horizontal directional bore: no open trench, no restoration
+)
+
 // DefaultSpareDucts is a pathway's number of spare ducts when spare_ducts is absent.
 const DefaultSpareDucts = 1
 
@@ -46,6 +53,7 @@ var (
 	statuses       = []string{StatusExisting, StatusProposed}
 	emis           = []string{EMINone, EMILow, EMIHigh}
 	surfaces       = []string{SurfaceTurf, SurfaceAsphalt, SurfaceConcrete}
+	methods        = []string{MethodTrench, MethodBore}
 	structureTypes = []string{StructureMaintenanceHole, StructureHandhole, StructurePullBox}
 )
 
@@ -435,6 +443,7 @@ func (f *feature) pathway(g orb.Geometry, ok bool) {
 	status, _ := f.enum(PropStatus, statuses, StatusExisting)
 	emi, _ := f.enum(PropEMI, emis, EMINone)
 	surface, _ := f.enum(PropSurface, surfaces, "")
+	method, _ := f.enum(PropMethod, methods, MethodTrench)
 	group, has := f.str(PropGroup)
 	if !has || group == "" {
 		group = f.id
@@ -448,6 +457,7 @@ func (f *feature) pathway(g orb.Geometry, ok bool) {
 		DuctMM:     f.num(PropDuctMM, DefaultDuctMM, true),
 		EMI:        emi,
 		Surface:    surface,
+		Method:     method,
 		Group:      group,
 		Lines:      lines,
 	})

@@ -32,6 +32,7 @@ func TestParseBad(t *testing.T) {
 		{"unknown_type.geojson", `unknown_type.geojson: feature #1 "P-1": property "type": want one of "duct", "tunnel", "aerial", "buried", "tray", got string "conduit"`, ErrBadValue, false},
 		{"unknown_status.geojson", `unknown_status.geojson: feature #1 "P-1": property "status": want one of "existing", "proposed", got string "planned"`, ErrBadValue, false},
 		{"unknown_emi.geojson", `unknown_emi.geojson: feature #1 "P-1": property "emi": want one of "none", "low", "high", got string "medium"`, ErrBadValue, false},
+		{"unknown_method.geojson", `unknown_method.geojson: feature #1 "P-1": property "method": want one of "trench", "bore", got string "tunnel-boring"`, ErrBadValue, false},
 		{"unknown_surface.geojson", `unknown_surface.geojson: feature #1 "P-1": property "surface": want one of "turf", "asphalt", "concrete", got string "gravel"`, ErrBadValue, false},
 		{"unknown_role.geojson", `unknown_role.geojson: feature #0 "B-1": property "role": want one of "mc", "ic", got string "hub"`, ErrBadValue, false},
 		{"wrong_property_type.geojson", `wrong_property_type.geojson: feature #0 "B-1": property "riser_m": want number >= 0, got string "15"`, ErrWrongType, false},
@@ -183,7 +184,7 @@ func TestParseValid(t *testing.T) {
 	}
 	p := c.Pathways[0]
 	wantP := Pathway{Source: Source{"campus.geojson", 2}, ID: "7", Type: TypeTunnel, Status: StatusProposed,
-		SpareDucts: 3, DuctMM: 50, EMI: EMIHigh, Surface: SurfaceAsphalt, Group: "north bank"}
+		SpareDucts: 3, DuctMM: 50, EMI: EMIHigh, Surface: SurfaceAsphalt, Method: MethodTrench, Group: "north bank"}
 	lines := p.Lines
 	p.Lines = nil
 	if !reflect.DeepEqual(p, wantP) {

@@ -44,6 +44,7 @@ type Span struct {
 	Status     string
 	EMI        string
 	Surface    string
+	Method     string // MethodTrench or MethodBore, for new work along the span
 	Group      string
 	SpareDucts int
 	DuctMM     float64

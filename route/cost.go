@@ -72,8 +72,18 @@ func surfaceOf(sp *geo.Span) string {
 	return geo.SurfaceTurf
 }
 
-// trenchPerMCents is new trench with restoration on the span's surface, per metre.
-func (m *costModel) trenchPerMCents(sp *geo.Span) (int64, error) {
+// newWorkPerMCents is the price of new work along a span, per metre: a directional bore when
+// the span's method is bore (no open trench, no restoration), else trench with restoration of
+// the span's surface.
+func (m *costModel) newWorkPerMCents(sp *geo.Span) (int64, error) {
+	if sp.Method == geo.MethodBore {
+		k := media.PriceKey{Item: media.PriceBore}
+		b, ok := m.prices.Price(k)
+		if !ok {
+			return 0, fmt.Errorf("%s: %w: %s", m.prices.File, media.ErrMissingPrice, k.Path())
+		}
+		return b, nil
+	}
 	s := surfaceOf(sp)
 	t, ok1 := m.prices.Price(media.PriceKey{Item: media.PriceTrench, Name: s})
 	r, ok2 := m.prices.Price(media.PriceKey{Item: media.PriceRestoration, Name: s})
@@ -115,7 +125,7 @@ func (s *Site) problem(m *costModel, links []Link) (*optimize.Problem, []demandI
 		if sp.Type != geo.TypeTray {
 			e.Flags |= optimize.FlagOutdoor
 		}
-		trench, err := m.trenchPerMCents(sp)
+		trench, err := m.newWorkPerMCents(sp)
 		if sp.Status == geo.StatusProposed {
 			if err != nil {
 				return nil, nil, err

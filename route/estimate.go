@@ -191,6 +191,7 @@ type Connectivity struct {
 // Construction is the new civil work of a plan, in metres and counts.
 type Construction struct {
 	TrenchM    map[string]float64 // new trench by surface: opened spans and trenches for added ducts
+	BoreM      float64            // the same built by directional bore (pathways with method bore)
 	AddedDuctM float64            // duct metres added: new duct in opened duct spans plus added ducts
 	// NewJunctions are the handholes where opened pathways join the network at a junction
 	// with no structure (common practice, no published source), by junction ID.
@@ -520,9 +521,18 @@ func (r *Result) connectivity() {
 	}
 }
 
+// newWork counts new work along a span: bored, or trenched on its surface.
+func (c *Construction) newWork(sp *geo.Span) {
+	if sp.Method == geo.MethodBore {
+		c.BoreM += sp.LengthM
+		return
+	}
+	c.TrenchM[surfaceOf(sp)] += sp.LengthM
+}
+
 // construction totals the new civil work: opened spans (trench and restoration on their
-// surface, and a duct when the span is a duct), added ducts on existing spans (one trench
-// beside the span however many ducts it gets) and a handhole where an opened span meets the
+// surface, or a directional bore, and a duct when the span is a duct), added ducts on existing
+// spans (one trench or bore beside the span however many ducts it gets) and a handhole where an opened span meets the
 // network at a junction without a structure.
 func (r *Result) construction() {
 	s := r.Site
@@ -534,7 +544,7 @@ func (r *Result) construction() {
 	newJ := map[string]bool{}
 	for _, id := range r.Opened {
 		sp, _ := s.Net.Span(id)
-		c.TrenchM[surfaceOf(&sp)] += sp.LengthM
+		c.newWork(&sp)
 		if sp.Type == geo.TypeDuct {
 			c.AddedDuctM += sp.LengthM
 		}
@@ -547,7 +557,7 @@ func (r *Result) construction() {
 	for _, f := range r.Fill {
 		if f.AddedDucts > 0 {
 			sp, _ := s.Net.Span(f.Span)
-			c.TrenchM[surfaceOf(&sp)] += sp.LengthM
+			c.newWork(&sp)
 			c.AddedDuctM += float64(f.AddedDucts) * sp.LengthM
 		}
 	}
@@ -653,6 +663,9 @@ func (r *Result) quantities() {
 	for _, sf := range sortedKeys(con.TrenchM) {
 		add(media.CategoryConstruction, "trench, "+sf, media.UnitM, con.TrenchM[sf], media.PriceKey{Item: media.PriceTrench, Name: sf})
 		add(media.CategoryConstruction, "restoration, "+sf, media.UnitM, con.TrenchM[sf], media.PriceKey{Item: media.PriceRestoration, Name: sf})
+	}
+	if con.BoreM > 0 { // a price book without bores stays valid while no plan bores
+		add(media.CategoryConstruction, "directional bore", media.UnitM, con.BoreM, media.PriceKey{Item: media.PriceBore})
 	}
 	add(media.CategoryConstruction, "added duct", media.UnitM, con.AddedDuctM, media.PriceKey{Item: media.PriceAddedDuct})
 	hh := media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole}

@@ -66,7 +66,13 @@ func pullCampusJSON(ductMM float64, spare int) string {
 // pullSolve plans the pull campus with the plan's defaults, changed by edit.
 func pullSolve(t *testing.T, ductMM float64, spare int, edit func(p *Plan)) (*Result, error) {
 	t.Helper()
-	c, err := geo.Parse("pull.geojson", []byte(pullCampusJSON(ductMM, spare)))
+	return pullSolveJSON(t, pullCampusJSON(ductMM, spare), edit)
+}
+
+// pullSolveJSON plans a campus given as GeoJSON with the plan's defaults, changed by edit.
+func pullSolveJSON(t *testing.T, campus string, edit func(p *Plan)) (*Result, error) {
+	t.Helper()
+	c, err := geo.Parse("pull.geojson", []byte(campus))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -819,5 +825,57 @@ print(wb["summary"]["B21"].value)
 		len(b.Lines), b.TotalCents, len(b.Lines)+1+1+len(b.Subtotal)+5)
 	if string(out) != want {
 		t.Errorf("openpyxl read:\n%s\nwant:\n%s", out, want)
+	}
+}
+
+// TestConstructionBore is TestConstruction with the proposed duct P built by directional
+// bore: its metres are bored, not trenched, no surface is restored, and the bill prices them
+// at the book's directional_bore_per_m; a book without that price is an error naming it.
+func TestConstructionBore(t *testing.T) {
+	t.Parallel()
+	campus := strings.Replace(pullCampusJSON(25, 1), `"surface":"asphalt"`, `"surface":"asphalt","method":"bore"`, 1)
+	r, err := pullSolveJSON(t, campus, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	legOf(t, r, "A-C")
+	if len(r.Opened) != 1 || !strings.HasPrefix(r.Opened[0], "P") {
+		t.Fatalf("opened: got %v, want P", r.Opened)
+	}
+	p, _ := r.Site.Net.Span(r.Opened[0])
+	con := r.Estimate.Construction
+	if math.Abs(con.BoreM-p.LengthM) > 1e-9 || con.TrenchM["asphalt"] != 0 || len(con.NewJunctions) != 1 {
+		t.Errorf("bore %.2f m (want %.2f), asphalt trench %.2f m (want 0), new junctions %v", con.BoreM, p.LengthM, con.TrenchM["asphalt"], con.NewJunctions)
+	}
+	b := r.Estimate.BOM
+	line, ok := bomLine(b, "directional bore")
+	if !ok || line.Quantity != math.Round(p.LengthM*10)/10 || line.UnitCents != 11500 { // the demo book's 115.00 per metre
+		t.Errorf("directional bore line: got %+v (found %v), want %.1f m at 115.00", line, ok, p.LengthM)
+	}
+	for _, item := range []string{"trench, asphalt", "restoration, asphalt"} {
+		if q := bomQty(b, item); q != 0 {
+			t.Errorf("%s: got %v, want none for a bored pathway", item, q)
+		}
+	}
+
+	book, err := os.ReadFile("../media/prices-demo.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	noBore := strings.Replace(string(book), "directional_bore_per_m: 115.00\n", "", 1)
+	if noBore == string(book) {
+		t.Fatal("the demo price book has no directional_bore_per_m: 115.00 line to remove")
+	}
+	dir := t.TempDir()
+	if err := os.WriteFile(filepath.Join(dir, "prices.yaml"), []byte(noBore), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	_, err = pullSolveJSON(t, campus, func(p *Plan) { p.Dir, p.Prices = dir, "prices.yaml" })
+	if err == nil || !errors.Is(err, media.ErrMissingPrice) || !strings.Contains(err.Error(), "directional_bore_per_m") {
+		t.Errorf("a bore without a bore price: got %v, want a missing directional_bore_per_m", err)
+	}
+	// The same book plans the campus when P is trenched.
+	if _, err := pullSolveJSON(t, pullCampusJSON(25, 1), func(p *Plan) { p.Dir, p.Prices = dir, "prices.yaml" }); err != nil {
+		t.Errorf("a book without bores, no bore in the plan: %v", err)
 	}
 }

@@ -252,7 +252,7 @@ type Summary struct {
 	Legs         int     `json:"legs"`
 	Infeasible   int     `json:"infeasible_legs"`
 	TotalRouteM  float64 `json:"total_route_m"`
-	NewTrenchM   float64 `json:"new_trench_m"`    // proposed pathway opened by the plan
+	NewTrenchM   float64 `json:"new_trench_m"`    // proposed pathway opened by the plan, trenched or bored
 	DiverseLinks int     `json:"diverse_links"`   // links with two disjoint feasible legs
 	DiverseShort int     `json:"diverse_missing"` // links that asked for a diverse route and did not get one
 	// WorstMarginDB is the smallest loss margin of any feasible fibre leg; null when none.

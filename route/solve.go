@@ -71,7 +71,7 @@ type Result struct {
 	Warnings []string
 
 	Currency   string  // the price book's ISO currency code
-	NewTrenchM float64 // metres of proposed pathway the plan opens
+	NewTrenchM float64 // metres of proposed pathway the plan opens, trenched or bored (see Construction)
 	// ExtraCents is plan-level cost not carried by any leg (for example markups); the
 	// plan's total is the legs' totals plus ExtraCents.
 	ExtraCents int64
