@@ -38,6 +38,28 @@ type costModel struct {
 	design Design
 	// labourPerM holds installation labour in cents per metre of one cable, by pathway type.
 	labourPerM map[string]int64
+	// innerductPerM is the innerduct material per metre, when the design places innerduct;
+	// placing it costs labourPerM[duct] again (one more pull).
+	innerductPerM int64
+}
+
+// flagDuct marks a duct edge for the optimizer, so that a cable too large for the design's
+// innerduct can be kept off ducts (a caller-defined flag; see optimize.FlagOutdoor).
+const flagDuct = optimize.FlagOutdoor << 1
+
+// innerductFits reports whether a cable of the given outside diameter fits the design's
+// innerduct: one cable at most 53 % of its inside area (NFPA 70 Chapter 9 Table 1, one cable).
+func (d Design) innerductFits(cableODMM float64) bool {
+	return cableODMM*cableODMM <= 0.53*d.InnerductIDMM*d.InnerductIDMM
+}
+
+// ductPerCablePerM is what one cable costs per metre of a duct span beyond its own price and
+// pull: with innerduct, the innerduct and the pull that places it.
+func (m *costModel) ductPerCablePerM() int64 {
+	if !m.design.Innerduct() {
+		return 0
+	}
+	return m.innerductPerM + m.labourPerM[geo.TypeDuct]
 }
 
 // newCostModel reads the labour rates the plan needs; a missing rate is an error naming its key.
@@ -57,6 +79,12 @@ func newCostModel(eng *media.Engine, d Design) (*costModel, error) {
 			continue
 		}
 		m.labourPerM[t] = int64(math.Round(float64(hour) / rate))
+	}
+	if d.Innerduct() {
+		k := media.PriceKey{Item: media.PriceInnerduct}
+		if m.innerductPerM, ok = p.Price(k); !ok {
+			missing = append(missing, k.Path())
+		}
 	}
 	if len(missing) > 0 {
 		return nil, fmt.Errorf("%s: %w: %v", p.File, media.ErrMissingPrice, missing)
@@ -124,6 +152,10 @@ func (s *Site) problem(m *costModel, links []Link) (*optimize.Problem, []demandI
 		}
 		if sp.Type != geo.TypeTray {
 			e.Flags |= optimize.FlagOutdoor
+		}
+		if sp.Type == geo.TypeDuct {
+			e.Flags |= flagDuct
+			e.LabourPerMCents += m.ductPerCablePerM()
 		}
 		trench, err := m.newWorkPerMCents(sp)
 		if sp.Status == geo.StatusProposed {
@@ -205,8 +237,17 @@ func (s *Site) demand(m *costModel, l *Link) (optimize.Demand, demandInfo) {
 		// Route-independent lengths (risers, laterals, slack) cost the same whatever the path.
 		fixed += media.MulCents(perM, riser+lateral+slack) + media.MulCents(m.labourPerM[geo.TypeTray], riser) +
 			media.MulCents(m.labourPerM[geo.TypeBuried], lateral)
+		od := cableOD(mm, strands)
+		if m.design.Innerduct() {
+			if !m.design.innerductFits(od) {
+				exclude |= flagDuct
+				info.excluded = append(info.excluded, fmt.Sprintf("%s: its %g mm cable does not fit the %g mm innerduct (53 %% fill, NFPA 70 Chapter 9 Table 1), so it is kept off ducts",
+					med, od, m.design.InnerductIDMM))
+			}
+			od = m.design.InnerductODMM // ducts hold the innerducts
+		}
 		d.Options = append(d.Options, optimize.Option{Name: med, CablePerMCents: perM, FixedCents: fixed,
-			MaxRouteM: maxRoute, ExcludeFlags: exclude, CableODMM: cableOD(mm, strands)})
+			MaxRouteM: maxRoute, ExcludeFlags: exclude, CableODMM: od})
 		info.options = append(info.options, med)
 	}
 	return d, info

@@ -382,15 +382,23 @@ func (s *Site) isStructure(id string) bool {
 // the chosen cables' outside diameters, packed as the optimizer does (first fit decreasing).
 func (r *Result) ductFill() {
 	e := r.Estimate
+	var d Design // a Result assembled by hand may lack its plan
+	if r.Plan != nil {
+		d = r.Plan.Design
+	}
 	ods := map[string][]float64{}
 	for i := range r.Legs {
 		l := &r.Legs[i]
 		if !l.Feasible {
 			continue
 		}
+		od := l.Cable.Size.ODMM
+		if d.Innerduct() {
+			od = d.InnerductODMM // every cable in a duct is in an innerduct of its own
+		}
 		for _, st := range l.Steps {
 			for c := 0; c < l.Cable.Cables; c++ {
-				ods[st.SpanID] = append(ods[st.SpanID], l.Cable.Size.ODMM)
+				ods[st.SpanID] = append(ods[st.SpanID], od)
 			}
 		}
 	}
@@ -584,6 +592,7 @@ func (r *Result) quantities() {
 	}
 	cords := p.Has(media.PricePatchCord)
 	pulled := map[string]float64{}
+	innerductM := 0.0
 	pull := func(t string, m float64) { pulled[t] += m }
 	for i := range r.Legs {
 		l := &r.Legs[i]
@@ -625,16 +634,27 @@ func (r *Result) quantities() {
 		}
 		// Metres pulled by pathway type: spans by their type, risers, coils and entrance
 		// loops in tray, laterals buried, structure loops in duct.
+		ductM := 0.0
 		for _, st := range l.Steps {
 			sp, _ := r.Site.Net.Span(st.SpanID)
 			pull(sp.Type, sp.LengthM*n)
+			if sp.Type == geo.TypeDuct {
+				ductM += sp.LengthM * n
+			}
 		}
+		innerductM += ductM
 		pull(geo.TypeTray, (l.RiserM+t.EndSlackM+t.EntranceLoopM)*n)
 		pull(geo.TypeBuried, l.LateralM*n)
 		pull(geo.TypeDuct, t.StructureLoopM*n)
 	}
 	for _, t := range sortedKeys(pulled) {
 		work("pull cable in "+t, media.UnitM, pulled[t], media.PriceKey{Item: media.RatePull, Name: t})
+	}
+	if d := r.Plan.Design; d.Innerduct() {
+		// One innerduct per cable along every duct span, placed by a pull of its own; it runs
+		// through the structures, where the cable's slack loops lie outside it.
+		add(media.CategoryMaterial, fmt.Sprintf("innerduct %g/%g mm", d.InnerductODMM, d.InnerductIDMM), media.UnitM, innerductM, media.PriceKey{Item: media.PriceInnerduct})
+		work("place innerduct in duct", media.UnitM, innerductM, media.PriceKey{Item: media.RatePull, Name: geo.TypeDuct})
 	}
 	for _, c := range e.Buildings {
 		for _, size := range sortedKeys(c.AdapterPanels) {

@@ -879,3 +879,81 @@ func TestConstructionBore(t *testing.T) {
 		t.Errorf("a book without bores, no bore in the plan: %v", err)
 	}
 }
+
+// TestInnerduct plans the pull campus with a 50 mm duct D, whose one spare duct takes the two
+// 24-strand cables of B and C side by side, with and without a 32/27 mm innerduct per cable.
+// With innerduct the duct fill counts the innerducts (NFPA 70 Chapter 9 Table 1: one at 41 %
+// of a 50 mm duct is within 53 %, two at 82 % are over 31 %), so where B's and C's routes share
+// D a duct is added; the bill adds the innerduct along every duct span and its placing pull,
+// and the legs' costs carry them at the demo book's 2.40 per metre and 92.00 per hour at 60 m
+// per hour. A cable too large for the innerduct is kept off ducts.
+func TestInnerduct(t *testing.T) {
+	t.Parallel()
+	plain, err := pullSolve(t, 50, 1, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	inner, err := pullSolve(t, 50, 1, func(p *Plan) { p.Design.InnerductODMM, p.Design.InnerductIDMM = 32, 27 })
+	if err != nil {
+		t.Fatal(err)
+	}
+	added := func(r *Result) int {
+		n := 0
+		for _, f := range r.Fill {
+			n += f.AddedDucts
+		}
+		return n
+	}
+	if added(plain) != 0 || added(inner) == 0 {
+		t.Errorf("added ducts: %d without innerduct (want 0), %d with (want some)", added(plain), added(inner))
+	}
+	for _, f := range inner.Estimate.Fill {
+		for _, od := range f.CablesODMM {
+			if od != 32 {
+				t.Errorf("span %s duct %d: an occupant of %g mm, want the 32 mm innerduct", f.Span, f.Duct, od)
+			}
+		}
+		if len(f.CablesODMM) != 1 || math.Abs(f.FillPct-100*32*32/(50*50.0)) > 1e-9 || !f.OK {
+			t.Errorf("span %s duct %d: %v at %.1f %% (ok %v), want one innerduct at 41 %%", f.Span, f.Duct, f.CablesODMM, f.FillPct, f.OK)
+		}
+	}
+	ductM := 0.0
+	for _, name := range []string{"A-B", "A-C"} {
+		_, lp := legOf(t, plain, name)
+		_, li := legOf(t, inner, name)
+		m := 0.0
+		for _, st := range li.Steps {
+			if sp, _ := inner.Site.Net.Span(st.SpanID); sp.Type == geo.TypeDuct {
+				m += sp.LengthM
+			}
+		}
+		ductM += m
+		if got, want := li.Cost.LabourCents-lp.Cost.LabourCents, media.MulCents(153, m); got != want {
+			t.Errorf("%s: innerduct placing labour %d cents, want %d (1.53 per metre over %.1f m)", name, got, want, m)
+		}
+		if name == "A-B" { // A-C shares an added duct, so its construction share moves too
+			if got, want := li.Cost.ConstructionCents-lp.Cost.ConstructionCents, media.MulCents(240, m); got != want {
+				t.Errorf("%s: innerduct material %d cents, want %d (2.40 per metre over %.1f m)", name, got, want, m)
+			}
+		}
+	}
+	if got, want := bomQty(inner.Estimate.BOM, "innerduct 32/27 mm"), math.Round(ductM*10)/10; got != want {
+		t.Errorf("innerduct in the bill: %v m, want %v", got, want)
+	}
+	if l, ok := bomLine(inner.Estimate.BOM, "place innerduct in duct"); !ok || math.Abs(l.Work-ductM) > 1e-6 || l.Quantity != math.Ceil(ductM/60*100)/100 {
+		t.Errorf("placing innerduct: got %+v (found %v), want %.2f m at 60 m per hour", l, ok, ductM)
+	}
+	if q := bomQty(plain.Estimate.BOM, "innerduct 32/27 mm"); q != 0 {
+		t.Errorf("a plan without innerduct bills %v m of it", q)
+	}
+
+	small, err := pullSolve(t, 50, 1, func(p *Plan) { p.Design.InnerductODMM, p.Design.InnerductIDMM = 12, 8 })
+	if err != nil && !errors.Is(err, ErrInfeasible) {
+		t.Fatal(err)
+	}
+	for _, l := range small.Legs {
+		if l.Feasible || !strings.Contains(l.Reason, "does not fit the 8 mm innerduct") {
+			t.Errorf("%s %s with an 8 mm innerduct: feasible %v, reason %q; want infeasible, kept off ducts", l.Link.ID, l.Name, l.Feasible, l.Reason)
+		}
+	}
+}

@@ -85,7 +85,16 @@ type Design struct {
 	PullMu              float64 `yaml:"pull_mu"`                // coefficient of friction between cable and duct
 	PullBendDeg         float64 `yaml:"pull_bend_deg"`          // most bend degrees between pull points
 	PullMaxM            float64 `yaml:"pull_max_m"`             // most metres between pull points; 0 for no limit
+
+	// Innerduct: when InnerductODMM > 0, every cable laid in a duct goes into an innerduct of
+	// its own, of this outside and inside diameter in millimetres. Duct fill then counts the
+	// innerducts, a cable must fit its innerduct, and the bill adds the innerduct and placing it.
+	InnerductODMM float64 `yaml:"innerduct_od_mm"`
+	InnerductIDMM float64 `yaml:"innerduct_id_mm"`
 }
+
+// Innerduct reports whether the design places innerduct in ducts.
+func (d Design) Innerduct() bool { return d.InnerductODMM > 0 }
 
 // Money is an amount in integer cents, read from a YAML number such as 1250000 or 1250000.50.
 type Money int64
@@ -415,6 +424,14 @@ func (p *Plan) validate() []error {
 	}
 	if g.Objective != ObjectiveCost && g.Objective != ObjectiveLength {
 		bad(0, "design.objective", "want %q or %q, got %q", ObjectiveCost, ObjectiveLength, g.Objective)
+	}
+	switch {
+	case !(g.InnerductODMM >= 0) || math.IsInf(g.InnerductODMM, 0):
+		bad(0, "design.innerduct_od_mm", "want millimetres >= 0 (0: no innerduct), got %g", g.InnerductODMM)
+	case g.InnerductODMM == 0 && g.InnerductIDMM != 0:
+		bad(0, "design.innerduct_id_mm", "want it only with design.innerduct_od_mm, got %g without", g.InnerductIDMM)
+	case g.InnerductODMM > 0 && !(g.InnerductIDMM > 0 && g.InnerductIDMM < g.InnerductODMM):
+		bad(0, "design.innerduct_id_mm", "want millimetres above 0 and below innerduct_od_mm (%g), got %g", g.InnerductODMM, g.InnerductIDMM)
 	}
 	return errs
 }

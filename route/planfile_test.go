@@ -64,6 +64,8 @@ func TestParsePlanErrors(t *testing.T) {
 		// bad values together.
 		{"nested problems on their own lines", "campus: [c]\ndesign:\n  snap: 2\n  loss_margin_db: lots\n  pull_mu: 0.3\n  slak_m: 1\n",
 			[]string{"line 3: field snap not found in type route.Design; line 4: cannot unmarshal !!str `lots` into float64; line 6: field slak_m not found"}},
+		{"innerduct inside without outside", "campus: [c]\ndesign: {innerduct_id_mm: 27}\n", []string{"design.innerduct_id_mm", "only with design.innerduct_od_mm"}},
+		{"innerduct inside not below outside", "campus: [c]\ndesign: {innerduct_od_mm: 32, innerduct_id_mm: 32}\n", []string{"design.innerduct_id_mm", "below innerduct_od_mm (32), got 32"}},
 		{"several problems at once", "campus: [c]\ndefaults: {strands: 0, growth: -1}\ndesign: {snap_m: 0}\n",
 			[]string{"defaults.strands", "defaults.growth", "design.snap_m"}},
 	}

@@ -263,7 +263,7 @@ func (s *Site) legsOf(cm *costModel, prob *optimize.Problem, rt *optimize.Route,
 		return legs
 	}
 	s.fillLeg(cm, prob, &primary, rt.Primary, rt.Medium, info)
-	primary.Cost.ConstructionCents = rt.Cost.ConstructionShareCents + rt.Cost.AddedDuctCents
+	primary.Cost.ConstructionCents += rt.Cost.ConstructionShareCents + rt.Cost.AddedDuctCents
 	legs := []Leg{primary}
 	if l.Diverse {
 		d := base
@@ -287,11 +287,15 @@ func (s *Site) fillLeg(cm *costModel, prob *optimize.Problem, leg *Leg, ol optim
 	types := map[string]bool{}
 	seen := map[string]bool{}
 	var labour int64
+	ductM := 0.0
 	for _, h := range ol.Hops {
 		sp := &s.Net.Spans[h.Edge]
 		leg.Steps = append(leg.Steps, geo.Step{SpanID: sp.ID, Reverse: !h.Forward})
 		leg.RouteM += sp.LengthM
 		labour += media.MulCents(cm.labourPerM[sp.Type], sp.LengthM)
+		if sp.Type == geo.TypeDuct {
+			ductM += sp.LengthM
+		}
 		if !seen[sp.PathwayID] {
 			seen[sp.PathwayID] = true
 			leg.Pathways = append(leg.Pathways, sp.PathwayID)
@@ -334,6 +338,11 @@ func (s *Site) fillLeg(cm *costModel, prob *optimize.Problem, leg *Leg, ol optim
 	leg.Cost.CableCents = ch.CableCents
 	leg.Cost.OpticsCents = ch.CostCents - ch.CableCents
 	leg.Cost.LabourCents = labour
+	if cm.design.Innerduct() {
+		// The leg's innerduct along its duct spans, and the pull that places it.
+		leg.Cost.ConstructionCents += media.MulCents(cm.innerductPerM, ductM)
+		leg.Cost.LabourCents += media.MulCents(cm.labourPerM[geo.TypeDuct], ductM)
+	}
 }
 
 var emiRank = map[string]int{geo.EMINone: 0, geo.EMILow: 1, geo.EMIHigh: 2}
