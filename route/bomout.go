@@ -139,7 +139,7 @@ func (r *Result) bomXLSX(opt WriteOptions) ([]byte, error) {
 	fill := wb.AddSheet("duct fill",
 		workbook.Column{Name: "span"}, workbook.Column{Name: "pathway"}, workbook.Column{Name: "duct"},
 		workbook.Column{Name: "added"}, workbook.Column{Name: "duct ID", Unit: u.diameter}, workbook.Column{Name: "cables"},
-		workbook.Column{Name: "cable ODs", Unit: u.diameter}, workbook.Column{Name: "fill", Unit: "%"},
+		workbook.Column{Name: odsHeader(r), Unit: u.diameter}, workbook.Column{Name: "fill", Unit: "%"},
 		workbook.Column{Name: "NFPA 70 limit", Unit: "%"}, workbook.Column{Name: "jam ratio 1.05 D/d"},
 		workbook.Column{Name: "in jam band 2.8-3.2"}, workbook.Column{Name: "ok"})
 	fill.Filter = true
@@ -302,4 +302,13 @@ func (r *Result) bomXLSX(opt WriteOptions) ([]byte, error) {
 		}
 	}
 	return wb.Bytes()
+}
+
+// odsHeader names the duct fill sheet's diameters column: the cables', or the innerducts'
+// that hold them.
+func odsHeader(r *Result) string {
+	if r.Plan != nil && r.Plan.Design.Innerduct() {
+		return "innerduct ODs (one per cable)"
+	}
+	return "cable ODs"
 }

@@ -168,9 +168,10 @@ type DuctFill struct {
 	Duct            int  // 1-based
 	Added           bool // a duct the plan adds
 	DuctIDMM        float64
-	CablesODMM      []float64
-	FillPct         float64 // cable area as a percentage of the duct's area
-	AllowedPct      float64 // 53, 31 or 40 % for 1, 2 or more cables
+	CablesODMM      []float64 // the occupants' outside diameters: the cables, or their innerducts
+	Innerduct       bool      // the occupants are innerducts, one per cable (design.innerduct_od_mm)
+	FillPct         float64   // occupants' area as a percentage of the duct's area
+	AllowedPct      float64   // 53, 31 or 40 % for 1, 2 or more cables
 	OK              bool
 	JamRatio        float64 // 0 when the jam check does not apply
 	JamRisk         bool
@@ -382,9 +383,9 @@ func (s *Site) isStructure(id string) bool {
 // the chosen cables' outside diameters, packed as the optimizer does (first fit decreasing).
 func (r *Result) ductFill() {
 	e := r.Estimate
-	var d Design // a Result assembled by hand may lack its plan
+	var design Design // a Result assembled by hand may lack its plan
 	if r.Plan != nil {
-		d = r.Plan.Design
+		design = r.Plan.Design
 	}
 	ods := map[string][]float64{}
 	for i := range r.Legs {
@@ -393,8 +394,8 @@ func (r *Result) ductFill() {
 			continue
 		}
 		od := l.Cable.Size.ODMM
-		if d.Innerduct() {
-			od = d.InnerductODMM // every cable in a duct is in an innerduct of its own
+		if design.Innerduct() {
+			od = design.InnerductODMM // every cable in a duct is in an innerduct of its own
 		}
 		for _, st := range l.Steps {
 			for c := 0; c < l.Cable.Cables; c++ {
@@ -422,7 +423,7 @@ func (r *Result) ductFill() {
 				continue
 			}
 			e.Fill = append(e.Fill, DuctFill{Span: f.Span, PathwayID: f.PathwayID, Duct: d + 1, Added: d >= f.Ducts,
-				DuctIDMM: sp.DuctMM, CablesODMM: df.CablesODMM, FillPct: df.Pct, AllowedPct: df.AllowedPct,
+				DuctIDMM: sp.DuctMM, CablesODMM: df.CablesODMM, Innerduct: design.Innerduct(), FillPct: df.Pct, AllowedPct: df.AllowedPct,
 				OK: df.OK && !df.JamRisk, JamRatio: df.JamRatio, JamRisk: df.JamRisk})
 		}
 	}

@@ -907,7 +907,15 @@ func TestInnerduct(t *testing.T) {
 	if added(plain) != 0 || added(inner) == 0 {
 		t.Errorf("added ducts: %d without innerduct (want 0), %d with (want some)", added(plain), added(inner))
 	}
+	for _, f := range plain.Estimate.Fill {
+		if f.Innerduct {
+			t.Errorf("span %s duct %d: innerduct in a plan without it", f.Span, f.Duct)
+		}
+	}
 	for _, f := range inner.Estimate.Fill {
+		if !f.Innerduct {
+			t.Errorf("span %s duct %d: not marked as innerducts", f.Span, f.Duct)
+		}
 		for _, od := range f.CablesODMM {
 			if od != 32 {
 				t.Errorf("span %s duct %d: an occupant of %g mm, want the 32 mm innerduct", f.Span, f.Duct, od)

@@ -718,6 +718,9 @@ func ductRows(fs []route.DuctFill) ([]ductRow, int) {
 			ods[k] = strconv.FormatFloat(od, 'f', 1, 64)
 		}
 		cables := strconv.Itoa(len(f.CablesODMM))
+		if f.Innerduct {
+			cables += " in innerduct"
+		}
 		if len(ods) > 0 {
 			cables += " (OD " + strings.Join(ods, ", ") + " mm)"
 		}
