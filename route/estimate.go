@@ -246,7 +246,7 @@ func (r *Result) pullPlan(i int, added map[string]bool) {
 	med := r.Engine.Catalog().Medium(leg.Medium)
 	k := med.Construction(leg.Construction)
 	spec := install.PullSpec{WNPerM: leg.Cable.Size.WeightKgPerM * StandardGravity, Mu: d.PullMu,
-		MaxTensionN: k.MaxPullN, MaxBendDeg: d.PullBendDeg, MaxLengthM: d.PullMaxM}
+		MaxTensionN: k.MaxPullN, MaxBendDeg: d.PullBendDeg, MaxLengthM: d.PullMaxM, MaxSWBPNPerM: d.PullMaxSWBPNPerM}
 	juncs := s.junctionsOf(leg.Steps)
 	cum := make([]float64, len(leg.Steps)+1)
 	spans := make([]geo.Span, len(leg.Steps))

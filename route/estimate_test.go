@@ -965,3 +965,48 @@ func TestInnerduct(t *testing.T) {
 		}
 	}
 }
+
+// TestPullSidewallLimit sets design.pull_max_swbp_n_per_m below the sidewall bearing pressure
+// the plain plan reaches (SWBP = tension out of the bend over its radius, seen): every pull
+// section then keeps under it, with pull points added, or is flagged with the reason; a
+// limit above every bend's pressure changes nothing.
+func TestPullSidewallLimit(t *testing.T) {
+	t.Parallel()
+	plain, err := pullSolve(t, 100, 2, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	worst := 0.0
+	for _, p := range plain.Estimate.Pulls {
+		worst = math.Max(worst, p.SWBPNPerM)
+	}
+	if worst <= 0 {
+		t.Fatal("the plain plan has no bend under tension")
+	}
+	high, err := pullSolve(t, 100, 2, func(p *Plan) { p.Design.PullMaxSWBPNPerM = 2 * worst })
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(high.Estimate.Pulls) != len(plain.Estimate.Pulls) || high.Estimate.AddedPullPoints != plain.Estimate.AddedPullPoints {
+		t.Errorf("a limit above every bend changed the pulls: %d sections and %d added points, want %d and %d",
+			len(high.Estimate.Pulls), high.Estimate.AddedPullPoints, len(plain.Estimate.Pulls), plain.Estimate.AddedPullPoints)
+	}
+	limit := worst / 2
+	low, err := pullSolve(t, 100, 2, func(p *Plan) { p.Design.PullMaxSWBPNPerM = limit })
+	if err != nil {
+		t.Fatal(err)
+	}
+	changed := low.Estimate.AddedPullPoints > plain.Estimate.AddedPullPoints
+	for _, p := range low.Estimate.Pulls {
+		switch {
+		case p.SWBPNPerM <= limit+1e-9:
+		case !p.WithinRating && strings.Contains(p.Reason, "sidewall pressure"):
+			changed = true
+		default:
+			t.Errorf("pull %s → %s: sidewall pressure %.1f N/m over the %.1f N/m limit, within %v (%s)", p.From, p.To, p.SWBPNPerM, limit, p.WithinRating, p.Reason)
+		}
+	}
+	if !changed {
+		t.Errorf("a limit of half the worst sidewall pressure added no pull point and flagged no pull")
+	}
+}

@@ -85,6 +85,7 @@ type Design struct {
 	PullMu              float64 `yaml:"pull_mu"`                // coefficient of friction between cable and duct
 	PullBendDeg         float64 `yaml:"pull_bend_deg"`          // most bend degrees between pull points
 	PullMaxM            float64 `yaml:"pull_max_m"`             // most metres between pull points; 0 for no limit
+	PullMaxSWBPNPerM    float64 `yaml:"pull_max_swbp_n_per_m"`  // most sidewall bearing pressure at a bend, N/m; 0: not checked
 
 	// Innerduct: when InnerductODMM > 0, every cable laid in a duct goes into an innerduct of
 	// its own, of this outside and inside diameter in millimetres. Duct fill then counts the
@@ -421,6 +422,9 @@ func (p *Plan) validate() []error {
 	}
 	if !(g.PullMaxM >= 0) || math.IsInf(g.PullMaxM, 0) {
 		bad(0, "design.pull_max_m", "want metres >= 0 (0: no limit), got %g", g.PullMaxM)
+	}
+	if !(g.PullMaxSWBPNPerM >= 0) || math.IsInf(g.PullMaxSWBPNPerM, 0) {
+		bad(0, "design.pull_max_swbp_n_per_m", "want N/m >= 0 (0: not checked), got %g", g.PullMaxSWBPNPerM)
 	}
 	if g.Objective != ObjectiveCost && g.Objective != ObjectiveLength {
 		bad(0, "design.objective", "want %q or %q, got %q", ObjectiveCost, ObjectiveLength, g.Objective)

@@ -66,6 +66,7 @@ func TestParsePlanErrors(t *testing.T) {
 			[]string{"line 3: field snap not found in type route.Design; line 4: cannot unmarshal !!str `lots` into float64; line 6: field slak_m not found"}},
 		{"innerduct inside without outside", "campus: [c]\ndesign: {innerduct_id_mm: 27}\n", []string{"design.innerduct_id_mm", "only with design.innerduct_od_mm"}},
 		{"innerduct inside not below outside", "campus: [c]\ndesign: {innerduct_od_mm: 32, innerduct_id_mm: 32}\n", []string{"design.innerduct_id_mm", "below innerduct_od_mm (32), got 32"}},
+		{"negative sidewall limit", "campus: [c]\ndesign: {pull_max_swbp_n_per_m: -1}\n", []string{"design.pull_max_swbp_n_per_m", "want N/m >= 0"}},
 		{"several problems at once", "campus: [c]\ndefaults: {strands: 0, growth: -1}\ndesign: {snap_m: 0}\n",
 			[]string{"defaults.strands", "defaults.growth", "design.snap_m"}},
 	}
