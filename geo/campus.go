@@ -46,6 +46,7 @@ const (
 	PropEMI        = "emi"
 	PropSurface    = "surface"
 	PropMethod     = "method"
+	PropPlenum     = "plenum"
 	PropGroup      = "group"
 	PropBuilding   = "building"
 )
@@ -85,6 +86,7 @@ type Pathway struct {
 	EMI        string // EMINone, EMILow, EMIHigh
 	Surface    string // turf, asphalt, concrete or "" (for proposed work)
 	Method     string // MethodTrench or MethodBore: how new work along it is built
+	Plenum     bool   // a tray in a plenum (an air-handling space): cable there must be plenum rated
 	Group      string // shared-risk group; the pathway's own ID when absent
 	Lines      orb.MultiLineString
 }

@@ -444,6 +444,12 @@ func (f *feature) pathway(g orb.Geometry, ok bool) {
 	emi, _ := f.enum(PropEMI, emis, EMINone)
 	surface, _ := f.enum(PropSurface, surfaces, "")
 	method, _ := f.enum(PropMethod, methods, MethodTrench)
+	plenum := f.flag(PropPlenum)
+	if plenum && typ != TypeTray {
+		// Cable in a raceway or outside a building is not in a plenum's air.
+		f.add(PropPlenum, problemf(ErrBadValue, "want true only on a tray pathway (type %q); this one is %q", TypeTray, typ))
+		plenum = false
+	}
 	group, has := f.str(PropGroup)
 	if !has || group == "" {
 		group = f.id
@@ -458,6 +464,7 @@ func (f *feature) pathway(g orb.Geometry, ok bool) {
 		EMI:        emi,
 		Surface:    surface,
 		Method:     method,
+		Plenum:     plenum,
 		Group:      group,
 		Lines:      lines,
 	})
@@ -537,6 +544,19 @@ func badEnum(allowed []string, got any) error {
 		kind = ErrWrongType
 	}
 	return problemf(kind, "want one of %s, got %s", strings.Join(q, ", "), describe(got))
+}
+
+// flag returns a boolean property, or false when absent or bad.
+func (f *feature) flag(key string) bool {
+	v, ok := f.props[key]
+	if !ok || v == nil {
+		return false
+	}
+	b, isBool := v.(bool)
+	if !isBool {
+		f.add(key, problemf(ErrWrongType, "want true or false, got %s", describe(v)))
+	}
+	return b
 }
 
 // num returns a number property >= 0 (> 0 when positive), or def when absent or bad.

@@ -32,6 +32,8 @@ func TestParseBad(t *testing.T) {
 		{"unknown_type.geojson", `unknown_type.geojson: feature #1 "P-1": property "type": want one of "duct", "tunnel", "aerial", "buried", "tray", got string "conduit"`, ErrBadValue, false},
 		{"unknown_status.geojson", `unknown_status.geojson: feature #1 "P-1": property "status": want one of "existing", "proposed", got string "planned"`, ErrBadValue, false},
 		{"unknown_emi.geojson", `unknown_emi.geojson: feature #1 "P-1": property "emi": want one of "none", "low", "high", got string "medium"`, ErrBadValue, false},
+		{"plenum_on_duct.geojson", `plenum_on_duct.geojson: feature #1 "P-1": property "plenum": want true only on a tray pathway (type "tray"); this one is "duct"`, ErrBadValue, false},
+		{"plenum_on_duct.geojson", `plenum_on_duct.geojson: feature #2 "P-2": property "plenum": want true or false, got string "yes"`, ErrWrongType, false},
 		{"unknown_method.geojson", `unknown_method.geojson: feature #1 "P-1": property "method": want one of "trench", "bore", got string "tunnel-boring"`, ErrBadValue, false},
 		{"unknown_surface.geojson", `unknown_surface.geojson: feature #1 "P-1": property "surface": want one of "turf", "asphalt", "concrete", got string "gravel"`, ErrBadValue, false},
 		{"unknown_role.geojson", `unknown_role.geojson: feature #0 "B-1": property "role": want one of "mc", "ic", got string "hub"`, ErrBadValue, false},

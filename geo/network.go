@@ -45,6 +45,7 @@ type Span struct {
 	EMI        string
 	Surface    string
 	Method     string // MethodTrench or MethodBore, for new work along the span
+	Plenum     bool   // the span runs in a plenum (tray pathways only)
 	Group      string
 	SpareDucts int
 	DuctMM     float64

@@ -218,6 +218,7 @@ func (e *Engine) evaluate(c *candidate, l Link, mi, ai, ki int) {
 	f[fMaxEMI].str = emi
 	f[fEMILevel].num = emiLevels[emi]
 	f[fOutdoor].b = l.Outdoor
+	f[fPlenum].b = l.Plenum
 	for _, t := range l.PathwayTypes {
 		if i, ok := pathwayFacts[t]; ok {
 			f[i].b = true
@@ -402,14 +403,14 @@ type chooseKey struct {
 	id                                           string
 	routeM, riserM, slackM, rateGbps, futureGbps float64
 	emi                                          string
-	outdoor                                      bool
+	outdoor, plenum                              bool
 	types                                        string
 	pairs, splices, strands                      int
 }
 
 func keyOf(l Link) chooseKey {
 	return chooseKey{id: l.ID, routeM: l.RouteM, riserM: l.RiserM, slackM: l.SlackM, rateGbps: l.RateGbps,
-		futureGbps: l.FutureRateGbps, emi: l.MaxEMI, outdoor: l.Outdoor, types: strings.Join(l.PathwayTypes, "\x00"),
+		futureGbps: l.FutureRateGbps, emi: l.MaxEMI, outdoor: l.Outdoor, plenum: l.Plenum, types: strings.Join(l.PathwayTypes, "\x00"),
 		pairs: l.ConnectorPairs, splices: l.Splices, strands: l.Strands}
 }
 
@@ -633,14 +634,14 @@ func (e *Engine) feasibleAt(l Link, mi int, channelM float64) bool {
 
 // MaxChannelM is the longest channel in metres over which medium can carry rateGbps, and
 // futureRateGbps when it is > 0, for a link with l's other facts (connector pairs, splices,
-// EMI, outdoor, risers, slack; l's rates and route length are ignored). It honours every
+// EMI, outdoor, plenum, risers, slack; l's rates and route length are ignored). It honours every
 // rule of the engine: the applications' reach, the multimode 2 km cap, the copper 100 m
 // cap and the loss budget solved for length, as the default rules state them. It never
 // exceeds the longest operating range of an application at the rate on the medium. It
 // returns 0 when the medium never carries the rate for such a link, or is unknown.
 func (e *Engine) MaxChannelM(medium string, rateGbps, futureRateGbps float64, l Link) float64 {
 	k := maxKey{medium: medium, rate: rateGbps, future: futureRateGbps, riser: l.RiserM, slack: l.SlackM,
-		emi: l.MaxEMI, outdoor: l.Outdoor, types: strings.Join(l.PathwayTypes, ","), pairs: l.ConnectorPairs,
+		emi: l.MaxEMI, outdoor: l.Outdoor, plenum: l.Plenum, types: strings.Join(l.PathwayTypes, ","), pairs: l.ConnectorPairs,
 		splices: l.Splices, strands: l.Strands}
 	if v, ok := e.maxMemo.Get(k); ok {
 		return v
@@ -655,7 +656,7 @@ type maxKey struct {
 	medium                     string
 	rate, future, riser, slack float64
 	emi                        string
-	outdoor                    bool
+	outdoor, plenum            bool
 	types                      string
 	pairs, splices, strands    int
 }

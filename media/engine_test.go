@@ -533,3 +533,35 @@ func TestChooseRemembers(t *testing.T) {
 		t.Errorf("remembered choice differs from a fresh one:\n%+v\n%+v", again, e.choose(l))
 	}
 }
+
+// TestChoosePlenum: a route through a plenum takes a plenum-rated construction (NFPA 70
+// Articles 770 and 800, cables in plenums: OFNP, CMP; from memory), which costs more than
+// riser cable in the demo book, so the same link outside a plenum takes riser cable; outdoors
+// and through a plenum no default construction is both, and the rejection says so.
+func TestChoosePlenum(t *testing.T) {
+	t.Parallel()
+	e := newEngine(t, nil, nil, EngineOptions{})
+	indoor := Link{ID: "L", RouteM: 60, RiserM: 10, RateGbps: 10, ConnectorPairs: 2, Strands: 12, PathwayTypes: []string{"tray"}}
+	riser := e.Choose(indoor)
+	plen := indoor
+	plen.Plenum = true
+	inPlenum := e.Choose(plen)
+	if !riser.Feasible || !inPlenum.Feasible {
+		t.Fatalf("want both feasible: %s / %s", riser.Reason, inPlenum.Reason)
+	}
+	if k := e.cat.Medium(riser.Medium).Construction(riser.Construction); k.PlenumRated {
+		t.Errorf("outside a plenum: chose plenum-rated %s %s, want the cheaper riser cable", riser.Medium, k.ID)
+	}
+	if k := e.cat.Medium(inPlenum.Medium).Construction(inPlenum.Construction); !k.PlenumRated {
+		t.Errorf("in a plenum: chose %s %s, not plenum rated", inPlenum.Medium, k.ID)
+	}
+	out := plen
+	out.Outdoor, out.PathwayTypes = true, []string{"duct", "tray"}
+	if ch := e.Choose(out); ch.Feasible {
+		if k := e.cat.Medium(ch.Medium).Construction(ch.Construction); !k.PlenumRated || !k.OutdoorRated {
+			t.Errorf("outdoors through a plenum: chose %s %s, which is not both outdoor and plenum rated", ch.Medium, k.ID)
+		}
+	} else if !strings.Contains(ch.Reason, "plenum") {
+		t.Errorf("outdoors through a plenum: infeasible without naming the plenum: %s", ch.Reason)
+	}
+}

@@ -27,6 +27,7 @@ const (
 	fHasAerial
 	fHasBuried
 	fHasTray
+	fPlenum
 	fConnectorPairs
 	fSplices
 	fStrands
@@ -76,6 +77,7 @@ var facts = [nFacts]Fact{
 	fHasAerial:                boolFact("has_aerial", "the route uses an aerial pathway"),
 	fHasBuried:                boolFact("has_buried", "the route uses a direct-buried pathway"),
 	fHasTray:                  boolFact("has_tray", "the route uses a cable tray pathway"),
+	fPlenum:                   boolFact("plenum", "part of the route runs in a plenum (an air-handling space)"),
 	fConnectorPairs:           numFact("connector_pairs", "mated connector pairs in the channel"),
 	fSplices:                  numFact("splices", "splices in the channel"),
 	fStrands:                  numFact("strands", "strands the link needs (4-pair cables for copper)"),

@@ -14,6 +14,7 @@ type Link struct {
 	MaxEMI       string   // highest EMI level on the route: "none", "low" or "high"
 	Outdoor      bool     // the route leaves a building (any segment outside)
 	PathwayTypes []string // distinct pathway types on the route, sorted
+	Plenum       bool     // part of the route runs in a plenum (an air-handling space)
 
 	// Connection counts from the route: mated connector pairs (two patch panels plus any
 	// cross-connect passed) and splices (entrance transitions and mid-span joins).

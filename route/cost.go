@@ -43,9 +43,13 @@ type costModel struct {
 	innerductPerM int64
 }
 
-// flagDuct marks a duct edge for the optimizer, so that a cable too large for the design's
-// innerduct can be kept off ducts (a caller-defined flag; see optimize.FlagOutdoor).
-const flagDuct = optimize.FlagOutdoor << 1
+// Caller-defined edge flags (see optimize.FlagOutdoor): flagDuct marks a duct edge, so that a
+// cable too large for the design's innerduct can be kept off ducts; flagPlenum a tray in a
+// plenum, kept from media that have no plenum-rated construction.
+const (
+	flagDuct   = optimize.FlagOutdoor << 1
+	flagPlenum = optimize.FlagOutdoor << 2
+)
 
 // innerductFits reports whether a cable of the given outside diameter fits the design's
 // innerduct: one cable at most 53 % of its inside area (NFPA 70 Chapter 9 Table 1, one cable).
@@ -157,6 +161,9 @@ func (s *Site) problem(m *costModel, links []Link) (*optimize.Problem, []demandI
 			e.Flags |= flagDuct
 			e.LabourPerMCents += m.ductPerCablePerM()
 		}
+		if sp.Plenum {
+			e.Flags |= flagPlenum
+		}
 		trench, err := m.newWorkPerMCents(sp)
 		if sp.Status == geo.StatusProposed {
 			if err != nil {
@@ -237,6 +244,9 @@ func (s *Site) demand(m *costModel, l *Link) (optimize.Demand, demandInfo) {
 		// Route-independent lengths (risers, laterals, slack) cost the same whatever the path.
 		fixed += media.MulCents(perM, riser+lateral+slack) + media.MulCents(m.labourPerM[geo.TypeTray], riser) +
 			media.MulCents(m.labourPerM[geo.TypeBuried], lateral)
+		if !plenumRated(mm) {
+			exclude |= flagPlenum
+		}
 		od := cableOD(mm, strands)
 		if m.design.Innerduct() {
 			if !m.design.innerductFits(od) {
@@ -251,6 +261,16 @@ func (s *Site) demand(m *costModel, l *Link) (optimize.Demand, demandInfo) {
 		info.options = append(info.options, med)
 	}
 	return d, info
+}
+
+// plenumRated reports whether the medium has a plenum-rated construction.
+func plenumRated(m *media.Medium) bool {
+	for _, k := range m.Constructions {
+		if k.PlenumRated {
+			return true
+		}
+	}
+	return false
 }
 
 // cableOD is the outside diameter in millimetres of the outdoor-rated cable of the medium

@@ -284,6 +284,7 @@ func (s *Site) fillLeg(cm *costModel, prob *optimize.Problem, leg *Leg, ol optim
 	leg.RouteM = leg.LateralM
 	emi := geo.EMINone
 	outdoor := leg.LateralM > 0
+	plenum := false
 	types := map[string]bool{}
 	seen := map[string]bool{}
 	var labour int64
@@ -301,6 +302,7 @@ func (s *Site) fillLeg(cm *costModel, prob *optimize.Problem, leg *Leg, ol optim
 			leg.Pathways = append(leg.Pathways, sp.PathwayID)
 		}
 		types[sp.Type] = true
+		plenum = plenum || sp.Plenum
 		if sp.Type != geo.TypeTray {
 			outdoor = true
 		}
@@ -313,6 +315,7 @@ func (s *Site) fillLeg(cm *costModel, prob *optimize.Problem, leg *Leg, ol optim
 	facts.RouteM = leg.RouteM
 	facts.MaxEMI = emi
 	facts.Outdoor = outdoor
+	facts.Plenum = plenum
 	for t := range types {
 		facts.PathwayTypes = append(facts.PathwayTypes, t)
 	}
