@@ -135,7 +135,7 @@ func outcome(rep *sweep.Report) error {
 }
 
 func printReport(w io.Writer, rep *sweep.Report, shard sweep.Shard) {
-	what := fmt.Sprintf("%d scenarios", rep.Run)
+	what := scenarios(rep.Run)
 	if !shard.Whole() {
 		what = fmt.Sprintf("shard %s: %d of %d scenarios", shard, rep.Run, rep.Scenarios)
 	}
@@ -221,6 +221,14 @@ func (p *progress) finish() {
 	}
 	el := time.Since(p.start)
 	if p.state.Done > 0 {
-		fmt.Fprintf(p.w, "sweep: %d scenarios in %s, %.1f per second\n", p.state.Done, el.Round(time.Millisecond), float64(p.state.Done)/el.Seconds())
+		fmt.Fprintf(p.w, "sweep: %s in %s, %.1f per second\n", scenarios(p.state.Done), el.Round(time.Millisecond), float64(p.state.Done)/el.Seconds())
 	}
+}
+
+// scenarios counts scenarios in words: "1 scenario", "3 scenarios".
+func scenarios(n int) string {
+	if n == 1 {
+		return "1 scenario"
+	}
+	return fmt.Sprintf("%d scenarios", n)
 }
