@@ -3,7 +3,7 @@
 GO ?= go
 BIN := bin/spanwright
 
-.PHONY: build test demo golden bench fuzz e2e clean
+.PHONY: build test race demo golden bench fuzz e2e clean
 
 build:
 	$(GO) build -o $(BIN) ./cmd/spanwright
@@ -12,6 +12,11 @@ build:
 test:
 	$(GO) vet ./...
 	$(GO) test -count=1 ./...
+
+# the tests under the race detector (needs cgo and a C compiler; not part of make test): the
+# sweep's worker pool and the caches shared by its scenarios are the concurrent parts.
+race:
+	$(GO) test -race -count=1 ./...
 
 # plan the embedded demo campus into demo-out/
 demo: build
