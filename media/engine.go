@@ -177,8 +177,67 @@ type candidate struct {
 	nFailed    int    // how many rules it fails
 	prefer     []bool // per prefer rule, in rule order
 	costCents  int64
-	cableCents int64 // the cable part of costCents
+	cableCents int64 // the cable part of costCents, transition enclosures and trays included
 	strands    int
+
+	// A transition candidate runs outside-plant construction k from entrance to entrance,
+	// spliced at each entrance to the listed construction inside, which takes the risers.
+	transition   bool
+	inside       *Construction
+	lossK        *Construction // k, or k and inside blended by length, for the loss budget
+	splices      int           // the link's splices, and the two transition splices
+	labourCents  int64         // splicing the transitions, part of costCents
+	transitionMC int64         // transition enclosures and trays, part of cableCents
+}
+
+// label names the candidate's cable: its construction, and the inside one it is spliced to.
+func (c *candidate) label() string {
+	if c.transition {
+		return c.k.ID + " spliced to " + c.inside.ID + " at both entrances"
+	}
+	return c.k.ID
+}
+
+// transitionInside is the listed construction a transition candidate of construction k
+// would splice to at each entrance, or nil when the link and the book allow no transition:
+// fibre only, outside-plant cable (outdoor rated, unlisted) on a route that leaves the
+// buildings over no tray and no plenum, risers to run inside, and the book pricing the
+// entrance splice enclosure (transition_splice_each).
+func (e *Engine) transitionInside(l Link, m *Medium, k *Construction, strands int) *Construction {
+	if !m.Fibre() || !l.Outdoor || l.Plenum || l.RiserM <= 0 || !k.OutdoorRated || k.Listing != "" {
+		return nil
+	}
+	for _, t := range l.PathwayTypes {
+		if t == "tray" {
+			return nil
+		}
+	}
+	if _, ok := e.prices.Price(PriceKey{Item: PriceTransition}); !ok {
+		return nil
+	}
+	in, _ := e.constructionFor(m, strands, false)
+	return in
+}
+
+// blend is construction k with its attenuation mixed with inside's by length: insideM of
+// lengthM metres in the inside construction, the rest in k. Only the attenuation is used.
+func blend(k, inside *Construction, insideM, lengthM float64) *Construction {
+	if inside == nil || lengthM <= 0 {
+		return k
+	}
+	f := math.Min(1, insideM/lengthM)
+	b := *k
+	b.Attenuation = make([]Attenuation, len(k.Attenuation))
+	for i, at := range k.Attenuation {
+		in := at.DBPerKm
+		for _, x := range inside.Attenuation {
+			if x.WavelengthNM == at.WavelengthNM {
+				in = x.DBPerKm
+			}
+		}
+		b.Attenuation[i] = Attenuation{WavelengthNM: at.WavelengthNM, DBPerKm: at.DBPerKm*(1-f) + in*f}
+	}
+	return &b
 }
 
 // strandsFor is what a link needs of application a on medium m: the link's strands but at
@@ -197,13 +256,18 @@ func strandsFor(l Link, a *Application, m *Medium) int {
 }
 
 // evaluate computes the facts of one candidate and applies the rules to it.
-func (e *Engine) evaluate(c *candidate, l Link, mi, ai, ki int) {
+func (e *Engine) evaluate(c *candidate, l Link, mi, ai, ki int, inside *Construction) {
 	m, a := e.cat.Media[mi], e.cat.Applications[ai]
 	k := m.Constructions[ki]
 	r, _ := a.On(m.ID)
 	channel := l.ChannelM()
-	*c = candidate{m: m, a: a, k: k, r: r, mi: mi, ai: ai, ki: ki, failed: -1, strands: strandsFor(l, a, m)}
-	c.losses = Losses(k, a, r, channel, l.ConnectorPairs, l.Splices, e.design, e.field)
+	*c = candidate{m: m, a: a, k: k, r: r, mi: mi, ai: ai, ki: ki, failed: -1, strands: strandsFor(l, a, m),
+		lossK: k, splices: l.Splices}
+	if inside != nil {
+		c.transition, c.inside, c.splices = true, inside, l.Splices+2
+		c.lossK = blend(k, inside, l.RiserM, channel)
+	}
+	c.losses = Losses(c.lossK, a, r, channel, l.ConnectorPairs, c.splices, e.design, e.field)
 	f := &c.f
 	f[fChannelM].num = channel
 	f[fRouteM].num = l.RouteM
@@ -225,7 +289,8 @@ func (e *Engine) evaluate(c *candidate, l Link, mi, ai, ki int) {
 		}
 	}
 	f[fConnectorPairs].num = float64(l.ConnectorPairs)
-	f[fSplices].num = float64(l.Splices)
+	f[fSplices].num = float64(c.splices)
+	f[fTransition].b = c.transition
 	f[fStrands].num = float64(c.strands)
 	f[fKind].str = m.Kind
 	f[fMedium].str = m.ID
@@ -271,7 +336,7 @@ func (e *Engine) evaluate(c *candidate, l Link, mi, ai, ki int) {
 		}
 	}
 	if c.failed < 0 {
-		c.cableCents, c.costCents = e.cost(c, channel)
+		c.cableCents, c.costCents = e.cost(c, channel, l.RiserM)
 	}
 }
 
@@ -294,7 +359,7 @@ func (e *Engine) future(l Link, c *candidate) {
 			continue
 		}
 		margin := 0.0
-		if w, ok := worstLoss(Losses(c.k, a, r, channel, l.ConnectorPairs, l.Splices, e.design, e.field)); ok {
+		if w, ok := worstLoss(Losses(c.lossK, a, r, channel, l.ConnectorPairs, c.splices, e.design, e.field)); ok {
 			margin = w.MarginDB
 		}
 		reaches := r.RangeM >= channel
@@ -334,13 +399,35 @@ func (e *Engine) future(l Link, c *candidate) {
 // for copper) at each end, and one transceiver at each end. Two transceivers serve the link
 // whether the PHY is duplex (2 fibres) or parallel (8 fibres in one module each end).
 // Labour, pathway and enclosures are not part of it.
-func (e *Engine) cost(c *candidate, channelM float64) (cableCents, totalCents int64) {
+func (e *Engine) cost(c *candidate, channelM float64, riserM float64) (cableCents, totalCents int64) {
 	size, n := c.k.Fit(c.strands)
 	perM, _ := e.prices.Price(PriceKey{Item: PriceCable, Medium: c.m.ID, Construction: c.k.ID, Count: size.Count})
 	term, _ := e.prices.Price(PriceKey{Item: PriceTermination, Medium: c.m.ID})
 	trx, _ := e.prices.Price(PriceKey{Item: PriceTransceiver, Name: c.a.Transceiver})
-	cableCents = MulCents(perM*int64(n), channelM)
-	return cableCents, cableCents + 2*int64(c.strands)*term + 2*trx
+	if !c.transition {
+		cableCents = MulCents(perM*int64(n), channelM)
+		return cableCents, cableCents + 2*int64(c.strands)*term + 2*trx
+	}
+	// Outside-plant cable between the entrances, inside cable up the risers, and at each
+	// entrance an enclosure with trays for every strand of the cable and the splicing.
+	inSize, inN := c.inside.Fit(c.strands)
+	inPerM, _ := e.prices.Price(PriceKey{Item: PriceCable, Medium: c.m.ID, Construction: c.inside.ID, Count: inSize.Count})
+	encl, _ := e.prices.Price(PriceKey{Item: PriceTransition})
+	tray, _ := e.prices.Price(PriceKey{Item: PriceSpliceTray})
+	per := e.prices.SpliceTrayStrands
+	if per <= 0 {
+		per = 12 // as the bill of materials counts trays
+	}
+	spliced := size.Count * n
+	trays := int64((spliced + per - 1) / per)
+	c.transitionMC = 2 * (int64(n)*encl + trays*tray)
+	cableCents = MulCents(perM*int64(n), channelM-riserM) + MulCents(inPerM*int64(inN), riserM) + c.transitionMC
+	if hour, ok := e.prices.Price(PriceKey{Item: PriceLabourHour}); ok {
+		if rate, ok := e.prices.Rate(PriceKey{Item: RateSplice}); ok && rate > 0 {
+			c.labourCents = int64(math.Round(float64(2*spliced) / rate * float64(hour)))
+		}
+	}
+	return cableCents, cableCents + c.labourCents + 2*int64(c.strands)*term + 2*trx
 }
 
 // checkLink lists what is wrong with a link's facts, or "" when nothing is.
@@ -431,7 +518,7 @@ func (e *Engine) choose(l Link) Choice {
 		if a.RateGbps == l.RateGbps {
 			for _, m := range e.cat.Media {
 				if _, on := a.On(m.ID); on {
-					n += len(m.Constructions)
+					n += 2 * len(m.Constructions) // with and without a transition, at most
 				}
 			}
 		}
@@ -446,12 +533,18 @@ func (e *Engine) choose(l Link) Choice {
 			if _, on := a.On(m.ID); !on {
 				continue
 			}
-			for ki := range m.Constructions {
-				c := &pool[len(all)]
-				e.evaluate(c, l, mi, ai, ki)
-				all = append(all, c)
-				if c.failed < 0 {
-					ok = append(ok, c)
+			for ki, k := range m.Constructions {
+				insides := []*Construction{nil}
+				if in := e.transitionInside(l, m, k, strandsFor(l, a, m)); in != nil {
+					insides = append(insides, in)
+				}
+				for _, inside := range insides {
+					c := &pool[len(all)]
+					e.evaluate(c, l, mi, ai, ki, inside)
+					all = append(all, c)
+					if c.failed < 0 {
+						ok = append(ok, c)
+					}
 				}
 			}
 		}
@@ -467,7 +560,10 @@ func (e *Engine) choose(l Link) Choice {
 		win = ok[0]
 		ch = Choice{Feasible: true, Medium: win.m.ID, Application: win.a.Name, Construction: win.k.ID,
 			Losses: win.losses, CostCents: win.costCents,
-			CableCents: win.cableCents, Strands: win.strands}
+			CableCents: win.cableCents, LabourCents: win.labourCents, Strands: win.strands}
+		if win.transition {
+			ch.Inside = win.inside.ID
+		}
 	}
 	var summary []string
 	for mi, m := range e.cat.Media {
@@ -510,7 +606,10 @@ func better(a, b *candidate) bool {
 	if a.ai != b.ai {
 		return a.ai < b.ai
 	}
-	return a.ki < b.ki
+	if a.ki != b.ki {
+		return a.ki < b.ki
+	}
+	return !a.transition && b.transition
 }
 
 // rejections explains why medium m lost.
@@ -526,16 +625,16 @@ func (e *Engine) rejections(l Link, m *Medium, mi int, all, ok []*candidate, win
 				pr := e.preferRule(i)
 				rule = pr.ID
 				how = fmt.Sprintf("%s with %s on %s is feasible at %s %s, but rule %s prefers %s: %s",
-					m.ID, c.a.Name, c.k.ID, FormatCents(c.costCents), e.prices.Currency, pr.ID, win.m.ID, pr.reason.render(win.f[:]))
+					m.ID, c.a.Name, c.label(), FormatCents(c.costCents), e.prices.Currency, pr.ID, win.m.ID, pr.reason.render(win.f[:]))
 				break
 			}
 		}
 		if how == "" {
-			how = fmt.Sprintf("%s with %s on %s costs %s %s, %s more than %s", m.ID, c.a.Name, c.k.ID,
+			how = fmt.Sprintf("%s with %s on %s costs %s %s, %s more than %s", m.ID, c.a.Name, c.label(),
 				FormatCents(c.costCents), e.prices.Currency, FormatCents(c.costCents-win.costCents), win.m.ID)
 			if c.costCents == win.costCents {
 				how = fmt.Sprintf("%s with %s on %s costs the same %s %s as %s, which has the larger margin or comes first in the catalog",
-					m.ID, c.a.Name, c.k.ID, FormatCents(c.costCents), e.prices.Currency, win.m.ID)
+					m.ID, c.a.Name, c.label(), FormatCents(c.costCents), e.prices.Currency, win.m.ID)
 			}
 		}
 		return []Rejection{{Medium: m.ID, Rule: rule, Reason: fmt.Sprintf("%s rejected by %s: %s", m.ID, rule, how)}}
@@ -580,7 +679,7 @@ func (e *Engine) preferRule(i int) *Rule {
 // reason is the one-sentence explanation of a choice.
 func (e *Engine) reason(l Link, win *candidate, ok []*candidate) string {
 	var b strings.Builder
-	fmt.Fprintf(&b, "%s with %s on %s ", win.m.ID, win.a.Name, win.k.ID)
+	fmt.Fprintf(&b, "%s with %s on %s ", win.m.ID, win.a.Name, win.label())
 	media := map[string]bool{}
 	for _, c := range ok {
 		media[c.m.ID] = true
@@ -623,9 +722,14 @@ func (e *Engine) feasibleAt(l Link, mi int, channelM float64) bool {
 		if !on || a.RateGbps != l.RateGbps || channelM > r.RangeM {
 			continue
 		}
-		for ki := range m.Constructions {
-			if e.evaluate(&c, l, mi, ai, ki); c.failed < 0 {
+		for ki, k := range m.Constructions {
+			if e.evaluate(&c, l, mi, ai, ki, nil); c.failed < 0 {
 				return true
+			}
+			if in := e.transitionInside(l, m, k, strandsFor(l, a, m)); in != nil {
+				if e.evaluate(&c, l, mi, ai, ki, in); c.failed < 0 {
+					return true
+				}
 			}
 		}
 	}

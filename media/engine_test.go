@@ -1,6 +1,8 @@
 package media
 
 import (
+	"bytes"
+	"math"
 	"path/filepath"
 	"reflect"
 	"strings"
@@ -124,9 +126,10 @@ func TestChoose(t *testing.T) {
 			wantCents: 340*202 + 2*2*1350 + 2*4500,
 		},
 		{
-			name: "long risers with a transition splice", link: Link{RouteM: 300, RiserM: 40, RateGbps: 10, Outdoor: true, ConnectorPairs: 2, Splices: 2, Strands: 2},
-			wantFeasible: true, wantMedium: "os2", wantApp: "10GBASE-LR", wantCons: "osp-loose-tube",
-			wantCents: 340*143 + 2*2*1350 + 2*4500,
+			// Mid-span splices are not entrance transitions: the 15 m rule still applies.
+			name: "long risers with mid-span splices", link: Link{RouteM: 300, RiserM: 40, RateGbps: 10, Outdoor: true, ConnectorPairs: 2, Splices: 2, Strands: 2},
+			wantFeasible: true, wantMedium: "os2", wantApp: "10GBASE-LR", wantCons: "indoor-outdoor",
+			wantCents: 340*202 + 2*2*1350 + 2*4500,
 		},
 		{
 			// common practice, no published source: multimode is not used beyond 2 km. The
@@ -563,5 +566,73 @@ func TestChoosePlenum(t *testing.T) {
 		}
 	} else if !strings.Contains(ch.Reason, "plenum") {
 		t.Errorf("outdoors through a plenum: infeasible without naming the plenum: %s", ch.Reason)
+	}
+}
+
+// TestChooseTransition: with the book pricing an entrance splice enclosure, a long outdoor
+// link with long risers may run outside-plant cable between the entrances spliced to listed
+// riser cable at each (NFPA 70 Article 770: unlisted cable at most 15 m inside the entrance,
+// seen as fragment). The cost, the splicing and the loss budget are worked by hand from the
+// demo book (invented prices) and ANSI/TIA-568.3-D maxima (outside plant 0.5 dB/km and inside
+// 1.0 dB/km at 1310 nm, 0.75 dB per mated pair, 0.3 dB per splice; from memory).
+func TestChooseTransition(t *testing.T) {
+	t.Parallel()
+	const demoLine = "transition_splice_each: 260.00\n"
+	if !bytes.Contains(pricesYAML, []byte(demoLine)) {
+		t.Fatal("the demo book's transition price moved")
+	}
+	engineWith := func(text string) *Engine {
+		t.Helper()
+		book, err := ParsePriceBook("prices.yaml", []byte(text))
+		if err != nil {
+			t.Fatal(err)
+		}
+		e, err := NewEngine(nil, nil, book, EngineOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		return e
+	}
+	e := engineWith(strings.Replace(string(pricesYAML), demoLine, "transition_splice_each: 180.00\n", 1))
+	plain := engineWith(strings.Replace(string(pricesYAML), demoLine, "", 1))
+	long := Link{ID: "L", RouteM: 3000, RiserM: 40, RateGbps: 10, Outdoor: true, ConnectorPairs: 2, Strands: 2, PathwayTypes: []string{"duct"}}
+
+	// Without the enclosure price: indoor/outdoor cable all the way, 3,040 m at 2.02.
+	if ch := plain.Choose(long); ch.Construction != "indoor-outdoor" || ch.Inside != "" || ch.CostCents != 3040*202+2*2*1350+2*4500 {
+		t.Errorf("no transition price: got %s/%q at %d cents, want indoor-outdoor at %d", ch.Construction, ch.Inside, ch.CostCents, 3040*202+2*2*1350+2*4500)
+	}
+	ch := e.Choose(long)
+	if !ch.Feasible || ch.Medium != "os2" || ch.Construction != "osp-loose-tube" || ch.Inside != "ofnr-riser" {
+		t.Fatalf("got %s %s spliced to %q (%s), want os2 osp-loose-tube spliced to ofnr-riser", ch.Medium, ch.Construction, ch.Inside, ch.Reason)
+	}
+	// 3,000 m of 12-fibre OSP at 1.43 and 40 m of 12-fibre riser at 1.68; at each entrance an
+	// enclosure at 180.00 and one 12-splice tray at 38.00; 2 × 12 splices at 12 an hour, 92.00
+	// an hour; then terminations (2 × 2 at 13.50) and two 10GBASE-LR transceivers at 45.00.
+	cable := int64(3000*143 + 40*168 + 2*(18000+3800))
+	labour := int64(2 * 9200)
+	if ch.CableCents != cable || ch.LabourCents != labour || ch.CostCents != cable+labour+2*2*1350+2*4500 {
+		t.Errorf("cost: cable %d, labour %d, total %d; want %d, %d, %d", ch.CableCents, ch.LabourCents, ch.CostCents, cable, labour, cable+labour+2*2*1350+2*4500)
+	}
+	for _, l := range ch.Losses {
+		if l.WavelengthNM == 1310 {
+			if want := 0.5*3.0 + 1.0*0.04 + 2*0.75 + 2*0.3; math.Abs(l.LossDB-want) > 0.005 {
+				t.Errorf("loss at 1310 nm: got %.3f dB, want %.3f", l.LossDB, want)
+			}
+		}
+	}
+	if !strings.Contains(ch.Reason, "osp-loose-tube spliced to ofnr-riser at both entrances") {
+		t.Errorf("reason does not name the transition: %s", ch.Reason)
+	}
+	// A short route keeps indoor/outdoor cable: two enclosures cost more than the difference.
+	short := long
+	short.RouteM = 300
+	if ch := e.Choose(short); ch.Construction != "indoor-outdoor" || ch.Inside != "" {
+		t.Errorf("300 m: got %s spliced to %q, want indoor-outdoor without a transition", ch.Construction, ch.Inside)
+	}
+	// Copper and routes through trays never get a transition.
+	tray := long
+	tray.PathwayTypes = []string{"duct", "tray"}
+	if ch := e.Choose(tray); ch.Inside != "" {
+		t.Errorf("route with a tray: transition to %q", ch.Inside)
 	}
 }

@@ -30,6 +30,7 @@ const (
 	fPlenum
 	fConnectorPairs
 	fSplices
+	fTransition
 	fStrands
 	fKind
 	fMedium
@@ -79,7 +80,8 @@ var facts = [nFacts]Fact{
 	fHasTray:                  boolFact("has_tray", "the route uses a cable tray pathway"),
 	fPlenum:                   boolFact("plenum", "part of the route runs in a plenum (an air-handling space)"),
 	fConnectorPairs:           numFact("connector_pairs", "mated connector pairs in the channel"),
-	fSplices:                  numFact("splices", "splices in the channel"),
+	fSplices:                  numFact("splices", "splices in the channel, entrance transitions included"),
+	fTransition:               boolFact("transition", "the outside-plant cable is spliced at both entrances to listed inside cable, which runs the risers"),
 	fStrands:                  numFact("strands", "strands the link needs (4-pair cables for copper)"),
 	fKind:                     strFact("kind", "the medium's kind", KindCopper, KindMultimode, KindSinglemode),
 	fMedium:                   strFact("medium", "the medium's catalog id, e.g. om4"),

@@ -54,7 +54,9 @@ type Choice struct {
 	Construction string // e.g. "osp-loose-tube"
 	Losses       []Loss // fibre only, one per test wavelength, ascending; see Loss.Operating
 	CostCents    int64  // installed cost of the medium: cable, terminations, transceivers
-	CableCents   int64  // the cable part of CostCents; the rest is terminations and transceivers
+	CableCents   int64  // the cable part of CostCents (entrance transition enclosures and trays included); the rest is labour, terminations and transceivers
+	LabourCents  int64  // splicing the entrance transitions, part of CostCents; 0 without
+	Inside       string // with an entrance transition: the listed construction Construction is spliced to at both entrances, which runs the risers; "" without
 	Strands      int    // strands terminated at each end (4-pair cables for copper)
 	Reason       string // why this medium, or why no medium fits when !Feasible
 	Rejected     []Rejection

@@ -20,6 +20,7 @@ const (
 	PriceTermination   = "termination"    // per strand end (connector or pigtail) for fibre, per 4-pair cable end (jack) for copper: Medium
 	PriceSpliceTray    = "splice-tray"    // each
 	PriceSpliceClosure = "splice-closure" // each
+	PriceTransition    = "transition"     // each: an entrance splice enclosure where outside-plant cable meets inside cable
 	PriceEnclosure     = "enclosure"      // fibre enclosure, each: Count ports
 	PriceAdapterPanel  = "adapter-panel"  // each: Count ports
 	PriceCopperPanel   = "copper-panel"   // copper patch panel, each: Count ports
@@ -75,6 +76,8 @@ func (k PriceKey) Path() string {
 		return "splice_tray.each"
 	case PriceSpliceClosure:
 		return "splice_closure_each"
+	case PriceTransition:
+		return "transition_splice_each"
 	case PriceEnclosure:
 		return "fibre_enclosures." + n
 	case PriceAdapterPanel:
@@ -293,6 +296,7 @@ type priceFile struct {
 	TerminationEach     map[string]cents                    `yaml:"termination_each"`
 	SpliceTray          spliceTrayYAML                      `yaml:"splice_tray"`
 	SpliceClosureEach   cents                               `yaml:"splice_closure_each"`
+	TransitionEach      cents                               `yaml:"transition_splice_each"`
 	FibreEnclosures     map[int]cents                       `yaml:"fibre_enclosures"`
 	AdapterPanels       map[int]cents                       `yaml:"adapter_panels"`
 	CopperPatchPanels   map[int]cents                       `yaml:"copper_patch_panels"`
@@ -431,6 +435,7 @@ func ParsePriceBook(name string, data []byte) (*PriceBook, error) {
 		}
 	}
 	scalar("splice_closure_each", PriceSpliceClosure, f.SpliceClosureEach)
+	scalar("transition_splice_each", PriceTransition, f.TransitionEach)
 	scalar("innerduct_per_m", PriceInnerduct, f.InnerductPerM)
 	scalar("directional_bore_per_m", PriceBore, f.DirectionalBorePerM)
 	scalar("added_duct_per_m", PriceAddedDuct, f.AddedDuctPerM)

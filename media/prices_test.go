@@ -27,6 +27,7 @@ func TestDefaultPriceBook(t *testing.T) {
 		{PriceKey{Item: PriceTermination, Medium: "om4"}, 1600},
 		{PriceKey{Item: PriceSpliceTray}, 3800},
 		{PriceKey{Item: PriceSpliceClosure}, 64000},
+		{PriceKey{Item: PriceTransition}, 26000},
 		{PriceKey{Item: PriceEnclosure, Count: 48}, 46000},
 		{PriceKey{Item: PriceAdapterPanel, Count: 12}, 6800},
 		{PriceKey{Item: PriceCopperPanel, Count: 24}, 16500},
@@ -137,7 +138,7 @@ func TestPriceBookBad(t *testing.T) {
 		sentinel       error
 		want           string
 	}{
-		{"unknown key", "innerduct_per_m: 2.40", "innerduct_per_metre: 2.40", ErrUnknownField, `x.yaml:58:1: field "innerduct_per_metre": unknown field`},
+		{"unknown key", "innerduct_per_m: 2.40", "innerduct_per_metre: 2.40", ErrUnknownField, `x.yaml:62:1: field "innerduct_per_metre": unknown field`},
 		{"nested unknown key", "  splices_per_hour: 12", "  splice_per_hour: 12", ErrUnknownField, `field "labour.splice_per_hour": unknown field`},
 		{"three decimals", "innerduct_per_m: 2.40", "innerduct_per_m: 2.405", ErrBadValue, `field "innerduct_per_m": bad value: want an amount >= 0 with at most two decimals, such as 12.35, got "2.405"`},
 		{"negative", "  om4: 16.00", "  om4: -16.00", ErrBadValue, `field "termination_each.om4": bad value`},

@@ -256,7 +256,7 @@ func (r *Result) bomXLSX(opt WriteOptions) ([]byte, error) {
 			}
 		}
 		rated := r.Engine.Catalog().Medium(l.Medium).Construction(l.Construction).MaxPullN
-		cells = append(cells, workbook.Text(l.Medium), workbook.Text(l.Application), workbook.Text(l.Construction),
+		cells = append(cells, workbook.Text(l.Medium), workbook.Text(l.Application), workbook.Text(l.ConstructionText()),
 			workbook.Int(int64(l.StrandsCable)), workbook.Int(int64(t.Cables)), workbook.Number(u.mm(t.Size.ODMM), 1),
 			workbook.Number(u.m(l.RouteM), 1), workbook.Number(u.m(l.RiserM), 1), workbook.Number(u.m(t.SlackM()), 1),
 			workbook.Int(int64(t.Structures)), workbook.Number(u.m(t.LengthM), 1), workbook.Int(int64(t.Reels)),
@@ -290,7 +290,7 @@ func (r *Result) bomXLSX(opt WriteOptions) ([]byte, error) {
 		l := &r.Legs[i]
 		for _, x := range l.Losses {
 			row := []workbook.Cell{workbook.Text(l.Link.ID), workbook.Text(l.Name), workbook.Text(l.Medium), workbook.Text(l.Application),
-				workbook.Text(l.Construction), workbook.Int(int64(x.WavelengthNM)), workbook.Number(u.m(l.Cable.ChannelM), 1),
+				workbook.Text(l.ConstructionText()), workbook.Int(int64(x.WavelengthNM)), workbook.Number(u.m(l.Cable.ChannelM), 1),
 				workbook.Int(ConnectorPairs), workbook.Int(int64(l.Cable.Joins)), workbook.Number(x.LossDB, 2)}
 			if x.Operating {
 				row = append(row, workbook.Number(x.LimitDB, 2), workbook.Number(x.MarginDB, 2))

@@ -52,7 +52,18 @@ type CableTakeoff struct {
 	// cable of 25 to 600 pairs carries no IEEE 802.3 application it lists, so it is neither
 	// priced nor chosen).
 	Terminated int
+
+	// With an entrance transition (Leg.Inside): the part of LengthM bought as the inside
+	// construction, which runs the risers and the service coils at both ends (with waste),
+	// in InsideCables cables of InsideSize; the rest of LengthM is the outside-plant cable.
+	InsideLengthM float64
+	InsideSize    media.Size
+	InsideCables  int
 }
+
+// OutsideLengthM is the length bought of the leg's own construction: all of LengthM, or
+// what the inside cable of a transition leaves.
+func (t CableTakeoff) OutsideLengthM() float64 { return t.LengthM - t.InsideLengthM }
 
 // SlackM is every slack loop of the leg, in metres.
 func (t CableTakeoff) SlackM() float64 { return t.EndSlackM + t.EntranceLoopM + t.StructureLoopM }
@@ -75,11 +86,17 @@ func (s *Site) takeoff(d Design, leg *Leg) CableTakeoff {
 	return t
 }
 
-// fit fills the takeoff's cable size from the rule engine's choice.
-func (t *CableTakeoff) fit(cat *media.Catalog, ch media.Choice) {
-	k := cat.Medium(ch.Medium).Construction(ch.Construction)
-	t.Size, t.Cables = k.Fit(ch.Strands)
+// fit fills the takeoff's cable size from the rule engine's choice; with an entrance
+// transition, also the inside cable, which takes riserM and the service coils, with the
+// design's waste.
+func (t *CableTakeoff) fit(cat *media.Catalog, ch media.Choice, riserM, wastePct float64) {
+	m := cat.Medium(ch.Medium)
+	t.Size, t.Cables = m.Construction(ch.Construction).Fit(ch.Strands)
 	t.Terminated = ch.Strands
+	if ch.Inside != "" {
+		t.InsideSize, t.InsideCables = m.Construction(ch.Inside).Fit(ch.Strands)
+		t.InsideLengthM = math.Min(t.LengthM, math.Ceil((riserM+t.EndSlackM)*(1+wastePct/100)-1e-9))
+	}
 }
 
 // junctionsOf lists the junction IDs along steps: the start, then the end of every step.
@@ -607,8 +624,19 @@ func (r *Result) quantities() {
 		if !fibre {
 			item = fmt.Sprintf("cable %s %s, 4-pair", l.Medium, l.Construction)
 		}
-		add(media.CategoryMaterial, item, media.UnitM, t.LengthM*n,
+		add(media.CategoryMaterial, item, media.UnitM, t.OutsideLengthM()*n,
 			media.PriceKey{Item: media.PriceCable, Medium: l.Medium, Construction: l.Construction, Count: t.Size.Count})
+		if l.Inside != "" {
+			// The entrance transitions: inside cable up the risers, and at each entrance an
+			// enclosure per cable with trays for every strand, all spliced through.
+			add(media.CategoryMaterial, fmt.Sprintf("cable %s %s, %d strands", l.Medium, l.Inside, t.InsideSize.Count), media.UnitM,
+				t.InsideLengthM*float64(t.InsideCables), media.PriceKey{Item: media.PriceCable, Medium: l.Medium, Construction: l.Inside, Count: t.InsideSize.Count})
+			spliced := t.Size.Count * t.Cables
+			trays := (spliced + trayStrands(p) - 1) / trayStrands(p)
+			add(media.CategoryMaterial, "entrance transition enclosure", media.UnitEach, 2*n, media.PriceKey{Item: media.PriceTransition})
+			add(media.CategoryMaterial, fmt.Sprintf("splice tray, %d splices", trayStrands(p)), media.UnitEach, float64(2*trays), media.PriceKey{Item: media.PriceSpliceTray})
+			work("splice fibre, entrance transitions", media.UnitEach, float64(2*spliced), media.PriceKey{Item: media.RateSplice})
+		}
 		ends := float64(2 * t.Terminated)
 		if fibre {
 			add(media.CategoryMaterial, "termination "+l.Medium+", per strand end", media.UnitEach, ends, media.PriceKey{Item: media.PriceTermination, Medium: l.Medium})

@@ -737,7 +737,7 @@ func TestCopperTakeoff(t *testing.T) {
 	cat := r.Engine.Catalog()
 	k := cat.Medium("cat6a").Construction("outdoor")
 	leg.Medium, leg.Construction, leg.Application = "cat6a", "outdoor", "1000BASE-T"
-	leg.Cable.fit(cat, media.Choice{Medium: "cat6a", Construction: "outdoor", Strands: (leg.StrandsCable + 1) / 2})
+	leg.Cable.fit(cat, media.Choice{Medium: "cat6a", Construction: "outdoor", Strands: (leg.StrandsCable + 1) / 2}, leg.RiserM, 0)
 	if leg.Cable.Cables != (leg.StrandsCable+1)/2 || leg.Cable.Size != k.Sizes[0] {
 		t.Fatalf("copper fit: %+v", leg.Cable)
 	}
@@ -1008,5 +1008,83 @@ func TestPullSidewallLimit(t *testing.T) {
 	}
 	if !changed {
 		t.Errorf("a limit of half the worst sidewall pressure added no pull point and flagged no pull")
+	}
+}
+
+// TestEntranceTransition gives the pull campus 40 m risers in every building, beyond what
+// unlisted outside-plant cable may run inside (NFPA 70 Article 770: 15 m past the entrance,
+// seen as fragment), and a price book with an entrance splice enclosure: B's leg then
+// runs outside-plant cable between the entrances, spliced at both to listed riser cable,
+// which the bill buys for the risers and the service coils; the loss budget counts the two
+// transition splices (ANSI/TIA-568.3-D 0.3 dB each, from memory) and the riser cable's inside
+// attenuation. Without the enclosure price the leg keeps indoor/outdoor cable.
+func TestEntranceTransition(t *testing.T) {
+	t.Parallel()
+	campus := strings.ReplaceAll(pullCampusJSON(100, 2), `"kind":"building",`, `"kind":"building","riser_m":40,`)
+	book, err := os.ReadFile("../media/prices-demo.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Indoor/outdoor single-mode at 6.26 a metre instead of 3.26, so that over this short route
+	// the two transitions (enclosures, trays and 48 splices) cost less than it.
+	const demoLine = "transition_splice_each: 260.00\n"
+	priced := strings.Replace(string(book), "indoor-outdoor: {12: 2.02, 24: 3.26,", "indoor-outdoor: {12: 2.02, 24: 6.26,", 1)
+	if priced == string(book) || !strings.Contains(priced, demoLine) {
+		t.Fatal("the demo book's os2 indoor-outdoor or transition prices moved")
+	}
+	dir := t.TempDir()
+	if err := os.WriteFile(filepath.Join(dir, "prices.yaml"), []byte(strings.Replace(priced, demoLine, "transition_splice_each: 5.00\n", 1)), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(filepath.Join(dir, "none.yaml"), []byte(strings.Replace(priced, demoLine, "", 1)), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	plain, err := pullSolveJSON(t, campus, func(p *Plan) { p.Dir, p.Prices = dir, "none.yaml" })
+	if err != nil {
+		t.Fatal(err)
+	}
+	tr, err := pullSolveJSON(t, campus, func(p *Plan) { p.Dir, p.Prices = dir, "prices.yaml" })
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, lp := legOf(t, plain, "A-B")
+	_, lt := legOf(t, tr, "A-B")
+	if lp.Construction != "indoor-outdoor" || lp.Inside != "" {
+		t.Fatalf("without the enclosure price: %s + %q, want indoor-outdoor", lp.Construction, lp.Inside)
+	}
+	if lt.Construction != "osp-loose-tube" || lt.Inside != "ofnr-riser" || lt.ConstructionText() != "osp-loose-tube + ofnr-riser at entrances" {
+		t.Fatalf("with it: %s + %q (%s), want osp-loose-tube spliced to ofnr-riser", lt.Construction, lt.Inside, lt.Choice)
+	}
+	c := lt.Cable
+	if want := math.Ceil((80 + c.EndSlackM) * 1.05); c.InsideLengthM != want || c.LengthM != lp.Cable.LengthM {
+		t.Errorf("inside cable %.0f m of %.0f m bought, want %.0f of %.0f (risers 2 × 40 m and the service coils, 5 %% waste)",
+			c.InsideLengthM, c.LengthM, want, lp.Cable.LengthM)
+	}
+	for _, nm := range []int{1310} {
+		a, _ := lp.lossAt(nm)
+		b, _ := lt.lossAt(nm)
+		// Two splices at 0.3 dB, and the risers at 1.0 dB/km instead of 0.5 (80 m: 0.04 dB).
+		if d := b.LossDB - a.LossDB; math.Abs(d-(0.6+0.04)) > 0.011 {
+			t.Errorf("%d nm: the transition adds %.3f dB, want 0.64", nm, d)
+		}
+	}
+	b := tr.Estimate.BOM
+	if q := bomQty(b, "entrance transition enclosure"); q < 2 {
+		t.Errorf("entrance transition enclosures: %v, want 2 for each transition leg", q)
+	}
+	if q := bomQty(b, "cable os2 ofnr-riser, 24 strands"); q < c.InsideLengthM {
+		t.Errorf("riser cable bought: %v m, want at least B's %.0f m", q, c.InsideLengthM)
+	}
+	if l, ok := bomLine(b, "splice fibre, entrance transitions"); !ok || l.Work < float64(2*c.Size.Count) {
+		t.Errorf("transition splicing: %+v (found %v), want at least %d splices", l, ok, 2*c.Size.Count)
+	}
+	files, err := tr.Outputs(WriteOptions{SkipWorkbook: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, f := range files {
+		if f.Name == "links.csv" && !bytes.Contains(f.Data, []byte("osp-loose-tube + ofnr-riser at entrances")) {
+			t.Errorf("links.csv does not show the transition:\n%s", f.Data)
+		}
 	}
 }

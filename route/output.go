@@ -132,6 +132,15 @@ func (l *Leg) worstLoss() (media.Loss, bool) {
 
 // Explain is the leg's reason in words: why it is infeasible, or why its medium was chosen
 // and why each other medium was not.
+// ConstructionText names the leg's cable for outputs: its construction, and with an entrance
+// transition the inside construction spliced on, as "osp-loose-tube + ofnr-riser at entrances".
+func (l *Leg) ConstructionText() string {
+	if l.Inside == "" {
+		return l.Construction
+	}
+	return l.Construction + " + " + l.Inside + " at entrances"
+}
+
 func (l *Leg) Explain() string {
 	if !l.Feasible {
 		return l.Reason
@@ -166,7 +175,7 @@ func (r *Result) routesGeoJSON() ([]byte, error) {
 			"pathways":     append([]string{}, l.Pathways...),
 			"medium":       l.Medium,
 			"application":  l.Application,
-			"construction": l.Construction,
+			"construction": l.ConstructionText(),
 			"strands":      l.StrandsCable,
 			"reason":       l.Explain(),
 			"cost_cents":   l.Cost.TotalCents(),
@@ -214,7 +223,7 @@ func (r *Result) linksCSV(opt WriteOptions) ([]byte, error) {
 		l := &r.Legs[i]
 		row := []string{l.Link.ID, l.Name, l.Link.From, l.Link.To, l.Link.Rate, l.Link.FutureRate,
 			strconv.Itoa(l.StrandsCable), routeF(l.RouteM), latF(l.LateralM), riserF(l.RiserM),
-			strings.Join(l.Pathways, " "), strconv.FormatBool(l.Feasible), l.Medium, l.Application, l.Construction}
+			strings.Join(l.Pathways, " "), strconv.FormatBool(l.Feasible), l.Medium, l.Application, l.ConstructionText()}
 		for _, nm := range Wavelengths {
 			if x, ok := l.lossAt(nm); ok {
 				row = append(row, db(x.LossDB))
@@ -419,7 +428,10 @@ func (r *Result) PrintSummary(w io.Writer, opt WriteOptions) error {
 	byCons := map[string]float64{}
 	for _, l := range r.Legs {
 		if l.Feasible {
-			byCons[l.Medium+" "+l.Construction] += l.Cable.LengthM * float64(l.Cable.Cables)
+			byCons[l.Medium+" "+l.Construction] += l.Cable.OutsideLengthM() * float64(l.Cable.Cables)
+			if l.Inside != "" {
+				byCons[l.Medium+" "+l.Inside] += l.Cable.InsideLengthM * float64(l.Cable.InsideCables)
+			}
 		}
 	}
 	if len(byCons) > 0 {

@@ -35,6 +35,7 @@ type Leg struct {
 	Medium        string       // catalog medium id, e.g. "os2"; "" when infeasible
 	Application   string       // IEEE 802.3 PHY, e.g. "10GBASE-LR"
 	Construction  string       // cable construction id
+	Inside        string       // with an entrance transition: the listed construction spliced on at both entrances; "" without
 	StrandsCable  int          // strands (or copper pairs) of the cable installed, after growth and rounding
 	Losses        []media.Loss // per wavelength, fibre only
 	WorstMarginDB float64      // smallest loss margin over the operating wavelengths; 0 for copper
@@ -331,16 +332,16 @@ func (s *Site) fillLeg(cm *costModel, prob *optimize.Problem, leg *Leg, ol optim
 		return
 	}
 	leg.Feasible = true
-	leg.Cable.fit(cm.eng.Catalog(), ch)
-	leg.Medium, leg.Application, leg.Construction = ch.Medium, ch.Application, ch.Construction
+	leg.Cable.fit(cm.eng.Catalog(), ch, leg.RiserM, cm.design.WastePct)
+	leg.Medium, leg.Application, leg.Construction, leg.Inside = ch.Medium, ch.Application, ch.Construction, ch.Inside
 	leg.Losses = ch.Losses
 	leg.WorstMarginDB = worstMargin(ch.Losses)
 	if ch.Medium != medium {
 		leg.Choice += fmt.Sprintf(" (the optimizer routed it for %s)", medium)
 	}
 	leg.Cost.CableCents = ch.CableCents
-	leg.Cost.OpticsCents = ch.CostCents - ch.CableCents
-	leg.Cost.LabourCents = labour
+	leg.Cost.OpticsCents = ch.CostCents - ch.CableCents - ch.LabourCents
+	leg.Cost.LabourCents = labour + ch.LabourCents
 	if cm.design.Innerduct() {
 		// The leg's innerduct along its duct spans, and the pull that places it.
 		leg.Cost.ConstructionCents += media.MulCents(cm.innerductPerM, ductM)

@@ -489,7 +489,7 @@ func legRows(r *route.Result, opt Options, med map[string]mediumInfo, names map[
 		l := &r.Legs[i]
 		row := legRow{Link: l.Link.ID, Leg: l.Name, From: l.Link.From, To: l.Link.To,
 			FromName: names[l.Link.From], ToName: names[l.Link.To], Rate: l.Link.Rate, Feasible: l.Feasible,
-			Application: l.Application, Construction: l.Construction, Strands: strconv.Itoa(l.StrandsCable),
+			Application: l.Application, Construction: l.ConstructionText(), Strands: strconv.Itoa(l.StrandsCable),
 			Route: opt.length(l.RouteM), Lat: opt.length(l.LateralM), Riser: opt.length(l.RiserM),
 			Cost: money(l.Cost.TotalCents())}
 		if l.Link.FutureRate != "" {
