@@ -204,19 +204,25 @@ func (c *candidate) label() string {
 // buildings over no tray and no plenum, risers to run inside, and the book pricing the
 // entrance splice enclosure (transition_splice_each).
 func (e *Engine) transitionInside(l Link, m *Medium, k *Construction, strands int) *Construction {
-	if !m.Fibre() || !l.Outdoor || l.Plenum || l.RiserM <= 0 || !k.OutdoorRated || k.Listing != "" {
-		return nil
-	}
-	for _, t := range l.PathwayTypes {
-		if t == "tray" {
-			return nil
-		}
-	}
-	if _, ok := e.prices.Price(PriceKey{Item: PriceTransition}); !ok {
+	if !e.transitionPossible(l, m, k) {
 		return nil
 	}
 	in, _ := e.constructionFor(m, strands, false)
 	return in
+}
+
+// transitionPossible is transitionInside's test without looking for the inside construction.
+func (e *Engine) transitionPossible(l Link, m *Medium, k *Construction) bool {
+	if !m.Fibre() || !l.Outdoor || l.Plenum || l.RiserM <= 0 || !k.OutdoorRated || k.Listing != "" {
+		return false
+	}
+	for _, t := range l.PathwayTypes {
+		if t == "tray" {
+			return false
+		}
+	}
+	_, ok := e.prices.Price(PriceKey{Item: PriceTransition})
+	return ok
 }
 
 // blend is construction k with its attenuation mixed with inside's by length: insideM of
@@ -518,7 +524,12 @@ func (e *Engine) choose(l Link) Choice {
 		if a.RateGbps == l.RateGbps {
 			for _, m := range e.cat.Media {
 				if _, on := a.On(m.ID); on {
-					n += 2 * len(m.Constructions) // with and without a transition, at most
+					for _, k := range m.Constructions {
+						n++
+						if e.transitionPossible(l, m, k) {
+							n++
+						}
+					}
 				}
 			}
 		}
