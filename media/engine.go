@@ -180,19 +180,17 @@ type candidate struct {
 	cableCents int64 // the cable part of costCents, transition enclosures and trays included
 	strands    int
 
-	// A transition candidate runs outside-plant construction k from entrance to entrance,
-	// spliced at each entrance to the listed construction inside, which takes the risers.
-	transition   bool
-	inside       *Construction
-	lossK        *Construction // k, or k and inside blended by length, for the loss budget
-	splices      int           // the link's splices, and the two transition splices
-	labourCents  int64         // splicing the transitions, part of costCents
-	transitionMC int64         // transition enclosures and trays, part of cableCents
+	// inside, when not nil, makes this a transition candidate: outside-plant construction k
+	// runs from entrance to entrance, spliced at each to inside, which takes the risers.
+	inside      *Construction
+	lossK       *Construction // k, or k and inside blended by length, for the loss budget
+	splices     int           // the link's splices, and the two transition splices
+	labourCents int64         // splicing the transitions, part of costCents
 }
 
 // label names the candidate's cable: its construction, and the inside one it is spliced to.
 func (c *candidate) label() string {
-	if c.transition {
+	if c.inside != nil {
 		return c.k.ID + " spliced to " + c.inside.ID + " at both entrances"
 	}
 	return c.k.ID
@@ -204,25 +202,24 @@ func (c *candidate) label() string {
 // buildings over no tray and no plenum, risers to run inside, and the book pricing the
 // entrance splice enclosure (transition_splice_each).
 func (e *Engine) transitionInside(l Link, m *Medium, k *Construction, strands int) *Construction {
-	if !e.transitionPossible(l, m, k) {
+	if !m.Fibre() || !l.Outdoor || l.Plenum || l.RiserM <= 0 || !k.OutdoorRated || k.Listing != "" ||
+		slices.Contains(l.PathwayTypes, "tray") {
+		return nil
+	}
+	if _, ok := e.prices.Price(PriceKey{Item: PriceTransition}); !ok {
 		return nil
 	}
 	in, _ := e.constructionFor(m, strands, false)
 	return in
 }
 
-// transitionPossible is transitionInside's test without looking for the inside construction.
-func (e *Engine) transitionPossible(l Link, m *Medium, k *Construction) bool {
-	if !m.Fibre() || !l.Outdoor || l.Plenum || l.RiserM <= 0 || !k.OutdoorRated || k.Listing != "" {
-		return false
+// variants lists the candidates of construction k of medium m for application a: the
+// construction as it is (a nil inside), then its entrance transition when it has one.
+func (e *Engine) variants(l Link, a *Application, m *Medium, k *Construction) []*Construction {
+	if in := e.transitionInside(l, m, k, strandsFor(l, a, m)); in != nil {
+		return []*Construction{nil, in}
 	}
-	for _, t := range l.PathwayTypes {
-		if t == "tray" {
-			return false
-		}
-	}
-	_, ok := e.prices.Price(PriceKey{Item: PriceTransition})
-	return ok
+	return []*Construction{nil}
 }
 
 // blend is construction k with its attenuation mixed with inside's by length: insideM of
@@ -270,7 +267,7 @@ func (e *Engine) evaluate(c *candidate, l Link, mi, ai, ki int, inside *Construc
 	*c = candidate{m: m, a: a, k: k, r: r, mi: mi, ai: ai, ki: ki, failed: -1, strands: strandsFor(l, a, m),
 		lossK: k, splices: l.Splices}
 	if inside != nil {
-		c.transition, c.inside, c.splices = true, inside, l.Splices+2
+		c.inside, c.splices = inside, l.Splices+2
 		c.lossK = blend(k, inside, l.RiserM, channel)
 	}
 	c.losses = Losses(c.lossK, a, r, channel, l.ConnectorPairs, c.splices, e.design, e.field)
@@ -296,7 +293,7 @@ func (e *Engine) evaluate(c *candidate, l Link, mi, ai, ki int, inside *Construc
 	}
 	f[fConnectorPairs].num = float64(l.ConnectorPairs)
 	f[fSplices].num = float64(c.splices)
-	f[fTransition].b = c.transition
+	f[fTransition].b = c.inside != nil
 	f[fStrands].num = float64(c.strands)
 	f[fKind].str = m.Kind
 	f[fMedium].str = m.ID
@@ -410,7 +407,7 @@ func (e *Engine) cost(c *candidate, channelM float64, riserM float64) (cableCent
 	perM, _ := e.prices.Price(PriceKey{Item: PriceCable, Medium: c.m.ID, Construction: c.k.ID, Count: size.Count})
 	term, _ := e.prices.Price(PriceKey{Item: PriceTermination, Medium: c.m.ID})
 	trx, _ := e.prices.Price(PriceKey{Item: PriceTransceiver, Name: c.a.Transceiver})
-	if !c.transition {
+	if c.inside == nil {
 		cableCents = MulCents(perM*int64(n), channelM)
 		return cableCents, cableCents + 2*int64(c.strands)*term + 2*trx
 	}
@@ -420,14 +417,9 @@ func (e *Engine) cost(c *candidate, channelM float64, riserM float64) (cableCent
 	inPerM, _ := e.prices.Price(PriceKey{Item: PriceCable, Medium: c.m.ID, Construction: c.inside.ID, Count: inSize.Count})
 	encl, _ := e.prices.Price(PriceKey{Item: PriceTransition})
 	tray, _ := e.prices.Price(PriceKey{Item: PriceSpliceTray})
-	per := e.prices.SpliceTrayStrands
-	if per <= 0 {
-		per = 12 // as the bill of materials counts trays
-	}
 	spliced := size.Count * n
-	trays := int64((spliced + per - 1) / per)
-	c.transitionMC = 2 * (int64(n)*encl + trays*tray)
-	cableCents = MulCents(perM*int64(n), channelM-riserM) + MulCents(inPerM*int64(inN), riserM) + c.transitionMC
+	hardware := 2 * (int64(n)*encl + int64(e.prices.TraysFor(spliced))*tray)
+	cableCents = MulCents(perM*int64(n), channelM-riserM) + MulCents(inPerM*int64(inN), riserM) + hardware
 	if hour, ok := e.prices.Price(PriceKey{Item: PriceLabourHour}); ok {
 		if rate, ok := e.prices.Rate(PriceKey{Item: RateSplice}); ok && rate > 0 {
 			c.labourCents = int64(math.Round(float64(2*spliced) / rate * float64(hour)))
@@ -518,24 +510,11 @@ func (e *Engine) choose(l Link) Choice {
 	if msg := checkLink(l); msg != "" {
 		return Choice{Reason: fmt.Sprintf("%s: bad facts: %s", linkName(l), msg)}
 	}
-	// The candidates are large (every fact of the rule language): one allocation for all.
-	n := 0
-	for _, a := range e.cat.Applications {
-		if a.RateGbps == l.RateGbps {
-			for _, m := range e.cat.Media {
-				if _, on := a.On(m.ID); on {
-					for _, k := range m.Constructions {
-						n++
-						if e.transitionPossible(l, m, k) {
-							n++
-						}
-					}
-				}
-			}
-		}
+	type spec struct {
+		mi, ai, ki int
+		inside     *Construction
 	}
-	pool := make([]candidate, n)
-	var all, ok []*candidate
+	var specs []spec
 	for ai, a := range e.cat.Applications {
 		if a.RateGbps != l.RateGbps {
 			continue
@@ -545,19 +524,22 @@ func (e *Engine) choose(l Link) Choice {
 				continue
 			}
 			for ki, k := range m.Constructions {
-				insides := []*Construction{nil}
-				if in := e.transitionInside(l, m, k, strandsFor(l, a, m)); in != nil {
-					insides = append(insides, in)
-				}
-				for _, inside := range insides {
-					c := &pool[len(all)]
-					e.evaluate(c, l, mi, ai, ki, inside)
-					all = append(all, c)
-					if c.failed < 0 {
-						ok = append(ok, c)
-					}
+				for _, inside := range e.variants(l, a, m, k) {
+					specs = append(specs, spec{mi, ai, ki, inside})
 				}
 			}
+		}
+	}
+	// The candidates are large (every fact of the rule language): one allocation for all.
+	pool := make([]candidate, len(specs))
+	all := make([]*candidate, len(specs))
+	var ok []*candidate
+	for i, s := range specs {
+		c := &pool[i]
+		e.evaluate(c, l, s.mi, s.ai, s.ki, s.inside)
+		all[i] = c
+		if c.failed < 0 {
+			ok = append(ok, c)
 		}
 	}
 	if len(all) == 0 {
@@ -572,7 +554,7 @@ func (e *Engine) choose(l Link) Choice {
 		ch = Choice{Feasible: true, Medium: win.m.ID, Application: win.a.Name, Construction: win.k.ID,
 			Losses: win.losses, CostCents: win.costCents,
 			CableCents: win.cableCents, LabourCents: win.labourCents, Strands: win.strands}
-		if win.transition {
+		if win.inside != nil {
 			ch.Inside = win.inside.ID
 		}
 	}
@@ -620,7 +602,7 @@ func better(a, b *candidate) bool {
 	if a.ki != b.ki {
 		return a.ki < b.ki
 	}
-	return !a.transition && b.transition
+	return a.inside == nil && b.inside != nil
 }
 
 // rejections explains why medium m lost.
@@ -734,11 +716,8 @@ func (e *Engine) feasibleAt(l Link, mi int, channelM float64) bool {
 			continue
 		}
 		for ki, k := range m.Constructions {
-			if e.evaluate(&c, l, mi, ai, ki, nil); c.failed < 0 {
-				return true
-			}
-			if in := e.transitionInside(l, m, k, strandsFor(l, a, m)); in != nil {
-				if e.evaluate(&c, l, mi, ai, ki, in); c.failed < 0 {
+			for _, inside := range e.variants(l, a, m, k) {
+				if e.evaluate(&c, l, mi, ai, ki, inside); c.failed < 0 {
 					return true
 				}
 			}

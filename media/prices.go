@@ -149,6 +149,21 @@ func (p *PriceBook) Rate(k PriceKey) (float64, bool) {
 	return r, ok
 }
 
+// TraySplices is how many splices a tray holds: the book's splice_tray strands, or 12 when it
+// does not say, since a book without trays fails on their price anyway.
+func (p *PriceBook) TraySplices() int {
+	if p.SpliceTrayStrands > 0 {
+		return p.SpliceTrayStrands
+	}
+	return 12
+}
+
+// TraysFor is how many trays hold the given splices.
+func (p *PriceBook) TraysFor(splices int) int {
+	per := p.TraySplices()
+	return (splices + per - 1) / per
+}
+
 // Has reports whether the book prices any key of item (a Price* or Rate* constant): a
 // bill of materials leaves out an optional item, such as patch cords, only when its whole
 // section is absent.

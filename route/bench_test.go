@@ -10,7 +10,6 @@ import (
 	"testing"
 
 	"spanwright/geo"
-	"spanwright/media"
 )
 
 var demoOnce struct {
@@ -45,14 +44,7 @@ func demoSite(tb testing.TB) (*Site, *Plan) {
 func BenchmarkSolveDemo(b *testing.B) {
 	s, p := demoSite(b)
 	b.ReportAllocs()
-	for i := 0; i < b.N; i++ {
-		b.StopTimer()
-		eng := forget(b, s, p)
-		b.StartTimer()
-		if _, err := SolveWith(context.Background(), s, p, eng); err != nil {
-			b.Fatal(err)
-		}
-	}
+	solveFresh(b, s, p)
 }
 
 // BenchmarkSolveDemoAgain plans the demo again and again on one site with one engine, as a
@@ -214,27 +206,27 @@ func BenchmarkPlan(b *testing.B) {
 			p := synthPlan(s)
 			b.ReportAllocs()
 			b.ResetTimer()
-			for i := 0; i < b.N; i++ {
-				b.StopTimer()
-				eng := forget(b, s, p)
-				b.StartTimer()
-				if _, err := SolveWith(context.Background(), s, p, eng); err != nil {
-					b.Fatal(err)
-				}
-			}
+			solveFresh(b, s, p)
 		})
 	}
 }
 
-// forget clears what the site remembers of earlier plans and returns a new engine for p, so
-// that a benchmark measures a whole plan, not the memory of an earlier one.
-func forget(b *testing.B, s *Site, p *Plan) *media.Engine {
+// solveFresh plans p on the site b.N times, each time with nothing remembered: the site's
+// caches cleared and a new engine, outside the timer, so that the benchmark measures a whole
+// plan, not the memory of an earlier one.
+func solveFresh(b *testing.B, s *Site, p *Plan) {
 	b.Helper()
-	s.solved.Purge()
-	s.pulls.Purge()
-	eng, err := Engine(p)
-	if err != nil {
-		b.Fatal(err)
+	for i := 0; i < b.N; i++ {
+		b.StopTimer()
+		s.solved.Purge()
+		s.pulls.Purge()
+		eng, err := Engine(p)
+		if err != nil {
+			b.Fatal(err)
+		}
+		b.StartTimer()
+		if _, err := SolveWith(context.Background(), s, p, eng); err != nil {
+			b.Fatal(err)
+		}
 	}
-	return eng
 }

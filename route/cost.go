@@ -164,12 +164,12 @@ func (s *Site) problem(m *costModel, links []Link) (*optimize.Problem, []demandI
 		if sp.Plenum {
 			e.Flags |= flagPlenum
 		}
-		trench, err := m.newWorkPerMCents(sp)
+		work, err := m.newWorkPerMCents(sp)
 		if sp.Status == geo.StatusProposed {
 			if err != nil {
 				return nil, nil, err
 			}
-			perM := trench
+			perM := work
 			if sp.Type == geo.TypeDuct {
 				perM += addDuct
 			}
@@ -177,7 +177,7 @@ func (s *Site) problem(m *costModel, links []Link) (*optimize.Problem, []demandI
 		} else if sp.Type == geo.TypeDuct {
 			e.Ducts, e.DuctIDMM = sp.SpareDucts, sp.DuctMM
 			if err == nil && addDuct > 0 {
-				e.AddDuctPerMCents = trench + addDuct
+				e.AddDuctPerMCents = work + addDuct
 			}
 		}
 		p.Edges[i] = e

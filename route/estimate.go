@@ -483,15 +483,6 @@ func counts(p *media.PriceBook, items ...string) map[string][]int {
 	return out
 }
 
-// trayStrands is how many splices a tray holds; 12 when the book does not say, since a book
-// without trays fails on their price anyway.
-func trayStrands(p *media.PriceBook) int {
-	if p.SpliceTrayStrands > 0 {
-		return p.SpliceTrayStrands
-	}
-	return 12
-}
-
 // connectivity sizes what each building terminates. Each fibre cable end gets its own
 // adapter panels (the fewest covering its strands) and its pigtail splices their own
 // trays; a building's enclosures hold all its panel ports; copper cables share the
@@ -524,7 +515,7 @@ func (r *Result) connectivity() {
 			for size, n := range cover(panels, l.Cable.Terminated) {
 				c.AdapterPanels[size] += n
 			}
-			c.SpliceTrays += (l.Cable.Terminated + trayStrands(p) - 1) / trayStrands(p)
+			c.SpliceTrays += p.TraysFor(l.Cable.Terminated)
 		}
 	}
 	names := make([]string, 0, len(byB))
@@ -632,9 +623,8 @@ func (r *Result) quantities() {
 			add(media.CategoryMaterial, fmt.Sprintf("cable %s %s, %d strands", l.Medium, l.Inside, t.InsideSize.Count), media.UnitM,
 				t.InsideLengthM*float64(t.InsideCables), media.PriceKey{Item: media.PriceCable, Medium: l.Medium, Construction: l.Inside, Count: t.InsideSize.Count})
 			spliced := t.Size.Count * t.Cables
-			trays := (spliced + trayStrands(p) - 1) / trayStrands(p)
 			add(media.CategoryMaterial, "entrance transition enclosure", media.UnitEach, 2*n, media.PriceKey{Item: media.PriceTransition})
-			add(media.CategoryMaterial, fmt.Sprintf("splice tray, %d splices", trayStrands(p)), media.UnitEach, float64(2*trays), media.PriceKey{Item: media.PriceSpliceTray})
+			add(media.CategoryMaterial, fmt.Sprintf("splice tray, %d splices", p.TraySplices()), media.UnitEach, float64(2*p.TraysFor(spliced)), media.PriceKey{Item: media.PriceSpliceTray})
 			work("splice fibre, entrance transitions", media.UnitEach, float64(2*spliced), media.PriceKey{Item: media.RateSplice})
 		}
 		ends := float64(2 * t.Terminated)
@@ -657,21 +647,18 @@ func (r *Result) quantities() {
 		if t.Joins > 0 {
 			joins := float64(t.Joins) * n
 			add(media.CategoryMaterial, "splice closure, mid-span join", media.UnitEach, joins, media.PriceKey{Item: media.PriceSpliceClosure})
-			trays := (t.Size.Count + trayStrands(p) - 1) / trayStrands(p)
-			add(media.CategoryMaterial, fmt.Sprintf("splice tray, %d splices", trayStrands(p)), media.UnitEach, joins*float64(trays), media.PriceKey{Item: media.PriceSpliceTray})
+			add(media.CategoryMaterial, fmt.Sprintf("splice tray, %d splices", p.TraySplices()), media.UnitEach, joins*float64(p.TraysFor(t.Size.Count)), media.PriceKey{Item: media.PriceSpliceTray})
 			work("splice fibre, mid-span joins", media.UnitEach, joins*float64(t.Size.Count), media.PriceKey{Item: media.RateSplice})
 		}
 		// Metres pulled by pathway type: spans by their type, risers, coils and entrance
 		// loops in tray, laterals buried, structure loops in duct.
-		ductM := 0.0
 		for _, st := range l.Steps {
 			sp, _ := r.Site.Net.Span(st.SpanID)
 			pull(sp.Type, sp.LengthM*n)
 			if sp.Type == geo.TypeDuct {
-				ductM += sp.LengthM * n
+				innerductM += sp.LengthM * n
 			}
 		}
-		innerductM += ductM
 		pull(geo.TypeTray, (l.RiserM+t.EndSlackM+t.EntranceLoopM)*n)
 		pull(geo.TypeBuried, l.LateralM*n)
 		pull(geo.TypeDuct, t.StructureLoopM*n)
@@ -705,7 +692,7 @@ func (r *Result) quantities() {
 			add(media.CategoryMaterial, "copper patch panel", media.UnitEach, 1, media.PriceKey{Item: media.PriceCopperPanel, Count: c.CopperCables})
 		}
 		if c.SpliceTrays > 0 {
-			add(media.CategoryMaterial, fmt.Sprintf("splice tray, %d splices", trayStrands(p)), media.UnitEach, float64(c.SpliceTrays), media.PriceKey{Item: media.PriceSpliceTray})
+			add(media.CategoryMaterial, fmt.Sprintf("splice tray, %d splices", p.TraySplices()), media.UnitEach, float64(c.SpliceTrays), media.PriceKey{Item: media.PriceSpliceTray})
 		}
 	}
 	con := e.Construction

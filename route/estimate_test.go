@@ -35,15 +35,17 @@ func pullPoint(x, y float64) [2]float64 {
 	return [2]float64{r(pullX(x)), r(pullY(y))}
 }
 
-func pullCampusJSON(ductMM float64, spare int) string {
-	box := func(id, role string, x, y float64) string {
-		r := ""
-		if role != "" {
-			r = fmt.Sprintf(`,"role":%q`, role)
-		}
-		return fmt.Sprintf(`{"type":"Feature","properties":{"kind":"building","id":%q%s},"geometry":{"type":"Polygon","coordinates":[[[%.7f,%.7f],[%.7f,%.7f],[%.7f,%.7f],[%.7f,%.7f],[%.7f,%.7f]]]}}`,
-			id, r, pullX(x-10), pullY(y-10), pullX(x+10), pullY(y-10), pullX(x+10), pullY(y+10), pullX(x-10), pullY(y+10), pullX(x-10), pullY(y-10))
+// boxJSON is a 20 m square building centred on (x, y) of the pull grid, as a GeoJSON feature.
+func boxJSON(id, role string, x, y float64) string {
+	r := ""
+	if role != "" {
+		r = fmt.Sprintf(`,"role":%q`, role)
 	}
+	return fmt.Sprintf(`{"type":"Feature","properties":{"kind":"building","id":%q%s},"geometry":{"type":"Polygon","coordinates":[[[%.7f,%.7f],[%.7f,%.7f],[%.7f,%.7f],[%.7f,%.7f],[%.7f,%.7f]]]}}`,
+		id, r, pullX(x-10), pullY(y-10), pullX(x+10), pullY(y-10), pullX(x+10), pullY(y+10), pullX(x-10), pullY(y+10), pullX(x-10), pullY(y-10))
+}
+
+func pullCampusJSON(ductMM float64, spare int) string {
 	line := func(pts ...float64) string {
 		var s []string
 		for i := 0; i+1 < len(pts); i += 2 {
@@ -52,7 +54,7 @@ func pullCampusJSON(ductMM float64, spare int) string {
 		return "[" + strings.Join(s, ",") + "]"
 	}
 	f := []string{
-		box("A", "mc", 10, 25), box("B", "", 210, 125), box("C", "", 300, 25),
+		boxJSON("A", "mc", 10, 25), boxJSON("B", "", 210, 125), boxJSON("C", "", 300, 25),
 		fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":"D","type":"duct","spare_ducts":%d,"duct_mm":%g},"geometry":{"type":"LineString","coordinates":%s}}`,
 			spare, ductMM, line(10, 15, 10, 0, 110, 0, 210, 0, 210, 115)),
 		fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":"P","type":"duct","status":"proposed","surface":"asphalt","duct_mm":%g},"geometry":{"type":"LineString","coordinates":%s}}`,

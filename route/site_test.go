@@ -228,27 +228,10 @@ func demoSiteFresh(tb testing.TB) (*Site, *Plan) {
 func TestPlenumRoute(t *testing.T) {
 	t.Parallel()
 	for _, plenum := range []bool{false, true} {
-		s := lineCampus(t, []string{"A", "B"}, []float64{0, 40}, map[string]string{"A": "mc"}, "")
-		// Replace the street and service ducts by one tray from inside A to inside B.
+		// A (the hub) and B 40 m apart, joined only by a tray from inside A to inside B.
 		data := fmt.Sprintf(`{"type":"FeatureCollection","features":[%s,%s,{"type":"Feature","properties":{"kind":"pathway","id":"T","type":"tray","plenum":%v},"geometry":{"type":"LineString","coordinates":[[%.7f,%.7f],[%.7f,%.7f]]}}]}`,
-			buildingJSON(s, "A"), buildingJSON(s, "B"), plenum,
-			-1+10/(111320*math.Cos(52*math.Pi/180)), 52+20/111000.0, -1+50/(111320*math.Cos(52*math.Pi/180)), 52+20/111000.0)
-		c, err := geo.Parse("tray.geojson", []byte(data))
-		if err != nil {
-			t.Fatal(err)
-		}
-		net, err := geo.Build(c, geo.Options{})
-		if err != nil {
-			t.Fatal(err)
-		}
-		site := NewSite(c, net)
-		p := PlanDefaults
-		p.File, p.Hub = "plan.yaml", "A"
-		eng, err := Engine(&p)
-		if err != nil {
-			t.Fatal(err)
-		}
-		r, err := SolveWith(context.Background(), site, &p, eng)
+			boxJSON("A", "mc", 20, 20), boxJSON("B", "", 60, 20), plenum, pullX(20), pullY(20), pullX(60), pullY(20))
+		r, err := pullSolveJSON(t, data, nil)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -256,24 +239,10 @@ func TestPlenumRoute(t *testing.T) {
 			t.Fatalf("plenum %v: want one feasible leg, got %+v", plenum, r.Legs)
 		}
 		l := r.Legs[0]
-		k := eng.Catalog().Medium(l.Medium).Construction(l.Construction)
+		k := r.Engine.Catalog().Medium(l.Medium).Construction(l.Construction)
 		t.Logf("plenum %v: %s %s, %.1f m", plenum, l.Medium, l.Construction, l.RouteM)
 		if k.PlenumRated != plenum {
 			t.Errorf("plenum %v: chose %s %s (plenum rated %v)", plenum, l.Medium, l.Construction, k.PlenumRated)
 		}
 	}
-}
-
-// buildingJSON renders a building of the site back as a GeoJSON feature.
-func buildingJSON(s *Site, id string) string {
-	b, _ := s.Building(id)
-	var ring []string
-	for _, p := range b.Footprint[0][0] {
-		ring = append(ring, fmt.Sprintf("[%.7f,%.7f]", p[0], p[1]))
-	}
-	role := ""
-	if b.Role != "" {
-		role = fmt.Sprintf(`,"role":%q`, b.Role)
-	}
-	return fmt.Sprintf(`{"type":"Feature","properties":{"kind":"building","id":%q%s},"geometry":{"type":"Polygon","coordinates":[[%s]]}}`, id, role, strings.Join(ring, ","))
 }

@@ -25,6 +25,7 @@ type File struct {
 	Cases []Case // named cases, in file order
 
 	baseData  []byte
+	baseDoc   *yaml.Node // baseData parsed; each scenario edits a copy
 	scenarios []Scenario
 }
 
@@ -108,10 +109,10 @@ func Parse(name string, data []byte) (*File, error) {
 	if f.Base != "" {
 		if data, err := os.ReadFile(f.Base); err != nil {
 			bad(lineOf(root, "base"), "", "base", err)
-		} else if err := checkPlanYAML(data); err != nil {
+		} else if doc, err := parsePlanYAML(data); err != nil {
 			bad(lineOf(root, "base"), "", "base", fmt.Errorf("%s: %w", f.Base, err))
 		} else {
-			f.baseData = data
+			f.baseData, f.baseDoc = data, doc
 		}
 	}
 	if len(errs.Errs) == 0 {
@@ -134,15 +135,16 @@ func lineOf(m *yaml.Node, key string) int {
 	return 0
 }
 
-func checkPlanYAML(data []byte) error {
+// parsePlanYAML parses a plan file's YAML document, which must be a mapping.
+func parsePlanYAML(data []byte) (*yaml.Node, error) {
 	var doc yaml.Node
 	if err := yaml.Unmarshal(data, &doc); err != nil {
-		return fmt.Errorf("not YAML: %v", strings.TrimPrefix(err.Error(), "yaml: "))
+		return nil, fmt.Errorf("not YAML: %v", strings.TrimPrefix(err.Error(), "yaml: "))
 	}
 	if len(doc.Content) == 0 || doc.Content[0].Kind != yaml.MappingNode {
-		return fmt.Errorf("want a mapping of plan keys")
+		return nil, fmt.Errorf("want a mapping of plan keys")
 	}
-	return nil
+	return &doc, nil
 }
 
 type badFunc func(line int, where, key string, err error)

@@ -197,11 +197,6 @@ type runner struct {
 	// the base plan's, into one relative to a scenario folder.
 	rebaseSweep, rebaseBase func(string) string
 
-	// baseDoc is the base plan parsed once; each scenario edits a copy.
-	baseOnce sync.Once
-	baseDoc  yaml.Node
-	baseErr  error
-
 	mu      sync.Mutex
 	skipped int
 	// trash lists replaced scenario folders, moved aside under temporary names and removed
@@ -467,11 +462,7 @@ func (r *runner) scenario(ctx context.Context, sc Scenario) (outcome, error) {
 // planYAML renders the scenario's plan: the base plan with file names made relative to the
 // scenario folder and the overrides applied, headed by a comment naming the scenario.
 func (r *runner) planYAML(sc Scenario) ([]byte, error) {
-	r.baseOnce.Do(func() { r.baseErr = yaml.Unmarshal(r.f.baseData, &r.baseDoc) })
-	if r.baseErr != nil {
-		return nil, fmt.Errorf("%s: %w", r.f.Base, r.baseErr) // checked by Parse
-	}
-	doc := cloneNode(&r.baseDoc)
+	doc := cloneNode(r.f.baseDoc)
 	root := doc.Content[0]
 	rebasePlanPaths(root, r.rebaseBase)
 	apply(root, sc.Set, r.rebaseSweep)
