@@ -258,12 +258,27 @@ func strandsFor(l Link, a *Application, m *Medium) int {
 	return a.Strands
 }
 
-// evaluate computes the facts of one candidate and applies the rules to it.
-func (e *Engine) evaluate(c *candidate, l Link, mi, ai, ki int, inside *Construction) {
+// lengths are the lengths a candidate is judged at: the link's own (its route and channel),
+// or, when the engine asks how far a medium reaches, a trial channel. They travel together so
+// that a channel is never rebuilt from a route by subtraction, or a route from a channel
+// (floating point would leave a few 1e-15 m below zero: a route of -0.000 m).
+type lengths struct{ routeM, channelM float64 }
+
+// linkLengths are l's own lengths.
+func linkLengths(l Link) lengths { return lengths{routeM: l.RouteM, channelM: l.ChannelM()} }
+
+// trialLengths are l's lengths with a channel of channelM metres, at least l's risers and
+// slack: the route is what remains, never below zero.
+func trialLengths(l Link, channelM float64) lengths {
+	return lengths{routeM: max(0, channelM-(l.RiserM+l.SlackM)), channelM: channelM}
+}
+
+// evaluate computes the facts of one candidate at lengths at and applies the rules to it.
+func (e *Engine) evaluate(c *candidate, l Link, at lengths, mi, ai, ki int, inside *Construction) {
 	m, a := e.cat.Media[mi], e.cat.Applications[ai]
 	k := m.Constructions[ki]
 	r, _ := a.On(m.ID)
-	channel := l.ChannelM()
+	channel := at.channelM
 	*c = candidate{m: m, a: a, k: k, r: r, mi: mi, ai: ai, ki: ki, failed: -1, strands: strandsFor(l, a, m),
 		lossK: k, splices: l.Splices}
 	if inside != nil {
@@ -273,7 +288,7 @@ func (e *Engine) evaluate(c *candidate, l Link, mi, ai, ki int, inside *Construc
 	c.losses = Losses(c.lossK, a, r, channel, l.ConnectorPairs, c.splices, e.design, e.field)
 	f := &c.f
 	f[fChannelM].num = channel
-	f[fRouteM].num = l.RouteM
+	f[fRouteM].num = at.routeM
 	f[fRiserM].num = l.RiserM
 	f[fSlackM].num = l.SlackM
 	f[fRateGbps].num = l.RateGbps
@@ -352,7 +367,7 @@ func (e *Engine) future(l Link, c *candidate) {
 		f[fFutureFits].b = true
 		return
 	}
-	channel := l.ChannelM()
+	channel := c.f[fChannelM].num
 	var best *Application
 	var bestR Reach
 	bestMargin, bestScore := 0.0, -1
@@ -530,13 +545,14 @@ func (e *Engine) choose(l Link) Choice {
 			}
 		}
 	}
+	at := linkLengths(l)
 	// The candidates are large (every fact of the rule language): one allocation for all.
 	pool := make([]candidate, len(specs))
 	all := make([]*candidate, len(specs))
 	var ok []*candidate
 	for i, s := range specs {
 		c := &pool[i]
-		e.evaluate(c, l, s.mi, s.ai, s.ki, s.inside)
+		e.evaluate(c, l, at, s.mi, s.ai, s.ki, s.inside)
 		all[i] = c
 		if c.failed < 0 {
 			ok = append(ok, c)
@@ -698,16 +714,10 @@ func (e *Engine) reason(l Link, win *candidate, ok []*candidate) string {
 	return b.String()
 }
 
-// withChannel is l with its route length set so that its channel is channelM metres.
-func withChannel(l Link, channelM float64) Link {
-	l.RouteM = channelM - l.RiserM - l.SlackM
-	return l
-}
-
 // feasibleAt reports whether medium mi carries l at channelM metres with some application
 // and construction.
 func (e *Engine) feasibleAt(l Link, mi int, channelM float64) bool {
-	l = withChannel(l, channelM)
+	at := trialLengths(l, channelM)
 	m := e.cat.Media[mi]
 	var c candidate
 	for ai, a := range e.cat.Applications {
@@ -717,7 +727,7 @@ func (e *Engine) feasibleAt(l Link, mi int, channelM float64) bool {
 		}
 		for ki, k := range m.Constructions {
 			for _, inside := range e.variants(l, a, m, k) {
-				if e.evaluate(&c, l, mi, ai, ki, inside); c.failed < 0 {
+				if e.evaluate(&c, l, at, mi, ai, ki, inside); c.failed < 0 {
 					return true
 				}
 			}
@@ -763,7 +773,8 @@ func (e *Engine) maxChannelM(medium string, rateGbps, futureRateGbps float64, l 
 		}
 	}
 	l.RateGbps, l.FutureRateGbps = rateGbps, futureRateGbps
-	if mi < 0 || checkLink(withChannel(l, l.RiserM+l.SlackM)) != "" {
+	l.RouteM = 0 // ignored: the facts checked are l's own, the channel is a trial length
+	if mi < 0 || checkLink(l) != "" {
 		return 0
 	}
 	m := e.cat.Media[mi]

@@ -237,8 +237,12 @@ func (s *Site) demand(m *costModel, l *Link) (optimize.Demand, demandInfo) {
 		maxRoute := maxCh - riser - slack - lateral
 		perM := m.eng.CablePerMCents(med, strands, true)
 		fixed := m.eng.FixedCents(med, rate, strands)
-		if maxRoute <= 0 || perM < 0 || fixed < 0 {
-			info.excluded = append(info.excluded, fmt.Sprintf("%s: reaches at most %.1f m of channel", med, maxCh))
+		switch {
+		case perM < 0 || fixed < 0:
+			info.excluded = append(info.excluded, fmt.Sprintf("%s: the price book prices no cable, termination or transceiver it needs at %s", med, media.FormatRate(rate)))
+			continue
+		case maxRoute <= 0:
+			info.excluded = append(info.excluded, fmt.Sprintf("%s: reaches at most %.1f m of channel; risers, slack and laterals alone take %.1f m", med, maxCh, riser+slack+lateral))
 			continue
 		}
 		// Route-independent lengths (risers, laterals, slack) cost the same whatever the path.

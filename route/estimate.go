@@ -208,9 +208,12 @@ type Connectivity struct {
 
 // Construction is the new civil work of a plan, in metres and counts.
 type Construction struct {
-	TrenchM    map[string]float64 // new trench by surface: opened spans and trenches for added ducts
-	BoreM      float64            // the same built by directional bore (pathways with method bore)
-	AddedDuctM float64            // duct metres added: new duct in opened duct spans plus added ducts
+	TrenchM map[string]float64 // new trench by surface: opened spans and trenches for added ducts
+	BoreM   float64            // the same built by directional bore (pathways with method bore)
+	// NewM is all new civil work in metres, trenched or bored: the sum of TrenchM and BoreM,
+	// computed once here and printed from here everywhere (summary, terminal, report, sweeps).
+	NewM       float64
+	AddedDuctM float64 // duct metres added: new duct in opened duct spans plus added ducts
 	// NewJunctions are the handholes where opened pathways join the network at a junction
 	// with no structure (common practice, no published source), by junction ID.
 	NewJunctions []string
@@ -582,6 +585,10 @@ func (r *Result) construction() {
 		c.NewJunctions = append(c.NewJunctions, j)
 	}
 	sort.Strings(c.NewJunctions)
+	c.NewM = c.BoreM
+	for _, sf := range sortedKeys(c.TrenchM) { // in one order: a float sum depends on it
+		c.NewM += c.TrenchM[sf]
+	}
 	r.Estimate.Construction = c
 }
 

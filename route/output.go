@@ -261,7 +261,7 @@ type Summary struct {
 	Legs         int     `json:"legs"`
 	Infeasible   int     `json:"infeasible_legs"`
 	TotalRouteM  float64 `json:"total_route_m"`
-	NewTrenchM   float64 `json:"new_trench_m"`    // proposed pathway opened by the plan, trenched or bored
+	NewTrenchM   float64 `json:"new_trench_m"`    // new civil work, trenched or bored: opened pathways and trenches for added ducts
 	DiverseLinks int     `json:"diverse_links"`   // links with two disjoint feasible legs
 	DiverseShort int     `json:"diverse_missing"` // links that asked for a diverse route and did not get one
 	// WorstMarginDB is the smallest loss margin of any feasible fibre leg; null when none.
@@ -308,11 +308,19 @@ type CostDriver struct {
 	Pct      float64 `json:"pct_of_subtotal"`
 }
 
+// newWorkM is the plan's new civil work in metres (Construction.NewM), 0 without an estimate.
+func newWorkM(e *Estimate) float64 {
+	if e == nil {
+		return 0
+	}
+	return e.Construction.NewM
+}
+
 // Summarize digests the result.
 func (r *Result) Summarize() Summary {
 	s := Summary{Scenario: r.Plan.Name, Hub: r.Hub, Buildings: len(r.Site.Campus.Buildings),
 		Links: len(r.Links), Legs: len(r.Legs), Warnings: append([]string{}, r.Warnings...),
-		MediaMix: map[string]int{}, Currency: r.Currency, NewTrenchM: round1(r.NewTrenchM),
+		MediaMix: map[string]int{}, Currency: r.Currency, NewTrenchM: round1(newWorkM(r.Estimate)),
 		BudgetCents: int64(r.Plan.Budget)}
 	feasibleLegs := map[string]int{}
 	for _, l := range r.Legs {
@@ -449,12 +457,12 @@ func (r *Result) PrintSummary(w io.Writer, opt WriteOptions) error {
 		return nil
 	}
 	c := e.Construction
-	trench := 0.0
-	for _, m := range c.TrenchM {
-		trench += m
+	bored := ""
+	if c.BoreM > 0 {
+		bored = " (" + length(c.BoreM) + " of it bored)"
 	}
-	fmt.Fprintf(w, "construction: new trench %s, added duct %s, %d handholes where new pathway joins, %d for added pull points\n",
-		length(trench), length(c.AddedDuctM), len(c.NewJunctions), e.AddedPullPoints)
+	fmt.Fprintf(w, "construction: new trench %s%s, added duct %s, %d handholes where new pathway joins, %d for added pull points\n",
+		length(c.NewM), bored, length(c.AddedDuctM), len(c.NewJunctions), e.AddedPullPoints)
 	if len(e.Pulls) > 0 {
 		hi := e.Pulls[0]
 		for _, p := range e.Pulls {

@@ -71,8 +71,7 @@ type Result struct {
 	Legs     []Leg
 	Warnings []string
 
-	Currency   string  // the price book's ISO currency code
-	NewTrenchM float64 // metres of proposed pathway the plan opens, trenched or bored (see Construction)
+	Currency string // the price book's ISO currency code
 	// ExtraCents is plan-level cost not carried by any leg (for example markups); the
 	// plan's total is the legs' totals plus ExtraCents.
 	ExtraCents int64
@@ -224,7 +223,6 @@ func SolveWith(ctx context.Context, s *Site, p *Plan, eng *media.Engine) (*Resul
 		r.Warnings = append(r.Warnings, w.File+": "+w.Feature+": "+w.Message)
 	}
 	for _, e := range sol.Opened {
-		r.NewTrenchM += prob.Edges[e].LengthM
 		r.Opened = append(r.Opened, s.Net.Spans[e].ID)
 	}
 	r.Fill = s.fillReport(prob, sol)

@@ -276,7 +276,7 @@ func planViewOf(r *route.Result, opt Options) (*planView, error) {
 	v.HubName = names[r.Hub]
 	v.Feasible = s.Legs - s.Infeasible
 	v.TotalRoute = opt.lengthU(s.TotalRouteM)
-	v.NewTrench = opt.lengthU(r.NewTrenchM)
+	v.NewTrench = opt.lengthU(s.NewTrenchM)
 	v.Opened = len(r.Opened)
 	if s.WorstMarginDB != nil {
 		v.Worst = dB(*s.WorstMarginDB) + " dB"
