@@ -1093,15 +1093,20 @@ func (b *builder) joinedNear(p int, alongP float64, q int, alongQ float64, tol f
 }
 
 func (b *builder) warnings() []Warning {
+	// By what they say and the feature's id, not by where the feature stands in its file, so
+	// that another feature order or file split lists the same warnings in the same order.
 	sort.SliceStable(b.warns, func(i, j int) bool {
 		x, y := b.warns[i], b.warns[j]
+		if x.msg != y.msg {
+			return x.msg < y.msg
+		}
+		if x.id != y.id {
+			return x.id < y.id
+		}
 		if x.src.File != y.src.File {
 			return x.src.File < y.src.File
 		}
-		if x.src.Index != y.src.Index {
-			return x.src.Index < y.src.Index
-		}
-		return x.msg < y.msg
+		return x.src.Index < y.src.Index
 	})
 	var out []Warning
 	for _, w := range b.warns {

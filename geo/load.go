@@ -2,12 +2,14 @@ package geo
 
 import (
 	"bytes"
+	"cmp"
 	"encoding/json"
 	"errors"
 	"fmt"
 	"io/fs"
 	"math"
 	"os"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -150,7 +152,20 @@ func (l *loader) finish() (*Campus, error) {
 		return nil, &l.errs
 	}
 	c := l.c
+	c.sortFeatures()
 	return &c, nil
+}
+
+// sortFeatures puts buildings, pathways and structures in one order whatever the order of the
+// features and files: by id, and structures without an id by their point. Entrances keep file
+// order, since the ids generated for id-less entrances follow it.
+func (c *Campus) sortFeatures() {
+	slices.SortStableFunc(c.Buildings, func(a, b Building) int { return strings.Compare(a.ID, b.ID) })
+	slices.SortStableFunc(c.Pathways, func(a, b Pathway) int { return strings.Compare(a.ID, b.ID) })
+	slices.SortStableFunc(c.Structures, func(a, b Structure) int {
+		return cmp.Or(strings.Compare(a.ID, b.ID), cmp.Compare(a.Point[0], b.Point[0]), cmp.Compare(a.Point[1], b.Point[1]),
+			strings.Compare(a.Type, b.Type))
+	})
 }
 
 // checkEntrances checks that every entrance names a building, and that the ids generated for
@@ -427,6 +442,65 @@ func (f *feature) building(g orb.Geometry, ok bool) {
 	})
 }
 
+// joinParts joins the parts of a pathway drawn in pieces where exactly two part ends meet at
+// one point, so that a run drawn as two lines meeting at a vertex is the same pathway as the
+// run drawn as one line: the meeting point is an interior vertex, not a junction. Parts
+// whose ends meet no other part's, or meet two or more, are kept as they are.
+func joinParts(mls orb.MultiLineString) orb.MultiLineString {
+	parts := make([]orb.LineString, 0, len(mls))
+	for _, l := range mls {
+		if len(l) > 0 {
+			parts = append(parts, slices.Clone(l))
+		}
+	}
+	ends := func(p orb.Point) int {
+		n := 0
+		for _, l := range parts {
+			if l[0] == p {
+				n++
+			}
+			if l[len(l)-1] == p {
+				n++
+			}
+		}
+		return n
+	}
+	for joined := true; joined; {
+		joined = false
+		for i := 0; i < len(parts) && !joined; i++ {
+			a := parts[i]
+			if a[0] == a[len(a)-1] {
+				continue
+			}
+			if ends(a[len(a)-1]) != 2 {
+				if ends(a[0]) != 2 {
+					continue
+				}
+				slices.Reverse(a) // join at its head instead
+			}
+			tail := a[len(a)-1]
+			for j := range parts {
+				b := parts[j]
+				if j == i || b[0] == b[len(b)-1] {
+					continue
+				}
+				if b[len(b)-1] == tail {
+					b = slices.Clone(b)
+					slices.Reverse(b)
+				}
+				if b[0] != tail {
+					continue
+				}
+				parts[i] = append(a, b[1:]...)
+				parts = slices.Delete(parts, j, j+1)
+				joined = true
+				break
+			}
+		}
+	}
+	return parts
+}
+
 func (f *feature) pathway(g orb.Geometry, ok bool) {
 	var lines orb.MultiLineString
 	if ok {
@@ -434,7 +508,7 @@ func (f *feature) pathway(g orb.Geometry, ok bool) {
 		case orb.LineString:
 			lines = orb.MultiLineString{t}
 		case orb.MultiLineString:
-			lines = t
+			lines = joinParts(t)
 		default:
 			f.add("geometry", problemf(ErrBadGeometry, "want LineString or MultiLineString for a pathway, got %s", geomName(g)))
 		}

@@ -296,3 +296,35 @@ func TestEntranceIDs(t *testing.T) {
 		t.Errorf("got %v, want %v", got, want)
 	}
 }
+
+// TestJoinParts: a pathway drawn as parts that meet end to end is one line; parts that meet
+// three at a point, or not at all, stay apart.
+func TestJoinParts(t *testing.T) {
+	p := func(x float64) orb.Point { return orb.Point{x, 0} }
+	q := func(y float64) orb.Point { return orb.Point{0, y} }
+	cases := []struct {
+		name string
+		in   orb.MultiLineString
+		want orb.MultiLineString
+	}{
+		{"tail to head", orb.MultiLineString{{p(0), p(1)}, {p(1), p(2)}}, orb.MultiLineString{{p(0), p(1), p(2)}}},
+		{"tail to tail", orb.MultiLineString{{p(0), p(1)}, {p(2), p(1)}}, orb.MultiLineString{{p(0), p(1), p(2)}}},
+		{"head to head", orb.MultiLineString{{p(1), p(0)}, {p(1), p(2)}}, orb.MultiLineString{{p(0), p(1), p(2)}}},
+		{"three pieces, any order", orb.MultiLineString{{p(2), p(3)}, {p(0), p(1)}, {p(1), p(2)}}, nil},
+		{"apart", orb.MultiLineString{{p(0), p(1)}, {p(2), p(3)}}, orb.MultiLineString{{p(0), p(1)}, {p(2), p(3)}}},
+		{"three meet", orb.MultiLineString{{p(0), p(1)}, {p(1), p(2)}, {p(1), q(1)}}, orb.MultiLineString{{p(0), p(1)}, {p(1), p(2)}, {p(1), q(1)}}},
+	}
+	for _, tc := range cases {
+		got := joinParts(tc.in)
+		if tc.name == "three pieces, any order" {
+			// One line through all four points, in either direction.
+			if len(got) != 1 || len(got[0]) != 4 || (got[0][0] != p(0) && got[0][0] != p(3)) {
+				t.Errorf("%s: got %v, want one line from 0 to 3", tc.name, got)
+			}
+			continue
+		}
+		if !reflect.DeepEqual(got, tc.want) {
+			t.Errorf("%s: got %v, want %v", tc.name, got, tc.want)
+		}
+	}
+}

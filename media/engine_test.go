@@ -636,3 +636,28 @@ func TestChooseTransition(t *testing.T) {
 		t.Errorf("route with a tray: transition to %q", ch.Inside)
 	}
 }
+
+// TestReachWithRisersAndSlack: a link whose risers and slack have one decimal, as surveys give
+// them, still reaches as far as the medium carries it. Before the fix a trial channel
+// rebuilt its route as (R+S)-R-S, which floating point left at -1e-15 m for about 30 riser
+// values in 0–40 m and 92 slack values in 0–20 m, and the medium was said to reach 0 m.
+func TestReachWithRisersAndSlack(t *testing.T) {
+	t.Parallel()
+	e := newEngine(t, DefaultCatalog(), nil, EngineOptions{LossMarginDB: 1})
+	want := e.MaxChannelM("os2", 10, 0, Link{ConnectorPairs: 2, Outdoor: true})
+	for riserD := 0; riserD <= 400; riserD++ {
+		for _, slackD := range []int{0, 2, 37, 100} {
+			l := Link{ConnectorPairs: 2, Outdoor: true, RiserM: float64(riserD) / 10 * 2, SlackM: float64(slackD) / 10 * 2}
+			if got := e.MaxChannelM("os2", 10, 0, l); got != want {
+				t.Fatalf("risers %.1f m, slack %.1f m: os2 reaches %.3f m of channel, want %.3f m (the same as with none)",
+					l.RiserM, l.SlackM, got, want)
+			}
+		}
+	}
+	for slackD := 0; slackD <= 200; slackD++ {
+		l := Link{ConnectorPairs: 2, Outdoor: true, RiserM: 30, SlackM: float64(slackD) / 10 * 2}
+		if got := e.MaxChannelM("os2", 10, 0, l); got != want {
+			t.Fatalf("slack_m %.1f: os2 reaches %.3f m, want %.3f m", float64(slackD)/10, got, want)
+		}
+	}
+}

@@ -1,0 +1,332 @@
+// Package campusgen generates campuses that look like the ones facilities GIS draws, for
+// tests: a jittered street grid of existing ducts (some full, some broken short), parallel
+// duct banks, tunnels near the centre, aerial spans at the edge, high- and low-EMI runs,
+// proposed trench (10–30 % of the pathways), maintenance holes at some junctions, buildings of
+// different sizes joined by laterals drawn as pathways (or reached by a counted lateral), and
+// risers from 0 to 40 m with one decimal. The same seed gives the same campus.
+//
+// Every number here is invented for testing; none describes a real campus.
+package campusgen
+
+import (
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"slices"
+	"strconv"
+	"strings"
+)
+
+// Feature is one GeoJSON feature: a geometry type, its coordinates as [lon, lat] rings or
+// lines, and properties written in the order given.
+type Feature struct {
+	Geometry string         // Point, LineString, MultiLineString, Polygon
+	Coords   [][][2]float64 // Point: [[p]]; LineString: [line]; MultiLineString: lines; Polygon: rings
+	Props    []Prop
+}
+
+// Prop is one property of a feature.
+type Prop struct {
+	Key   string
+	Value any // string, float64, int or bool
+}
+
+// Campus is a generated campus and the facts a test needs about it.
+type Campus struct {
+	Features []Feature
+	Hub      string   // the building with role mc
+	IDs      []string // every id (buildings, pathways, structures), in feature order
+}
+
+// Options shape a generated campus.
+type Options struct {
+	Buildings   int     // served buildings and cross-connects together
+	ProposedPct float64 // share of street pathways that are proposed, 10–30 by default
+}
+
+const (
+	lat0, lon0 = 46.2, 7.1 // an invented place; only the shape of the earth matters
+	mPerDegLat = 111_200.0
+)
+
+// ll turns local metres into [lon, lat].
+func ll(xM, yM float64) [2]float64 {
+	return [2]float64{lon0 + xM/(mPerDegLat*math.Cos(lat0*math.Pi/180)), lat0 + yM/mPerDegLat}
+}
+
+// Generate builds a campus from seed.
+func Generate(seed uint64, opt Options) *Campus {
+	r := rand.New(rand.NewPCG(seed, seed^0x9e3779b97f4a7c15))
+	n := max(opt.Buildings, 3)
+	prop := opt.ProposedPct
+	if prop == 0 {
+		prop = 10 + 20*r.Float64()
+	}
+	// A grid with about one block side per building.
+	g := 2
+	for 2*g*(g-1) < n {
+		g++
+	}
+	step := 90 + 60*r.Float64()
+	node := make([][][2]float64, g)
+	for i := range node {
+		node[i] = make([][2]float64, g)
+		for j := range node[i] {
+			node[i][j] = [2]float64{float64(i)*step + (r.Float64()-0.5)*0.3*step, float64(j)*step + (r.Float64()-0.5)*0.3*step}
+		}
+	}
+	c := &Campus{}
+	add := func(f Feature) {
+		for _, p := range f.Props {
+			if p.Key == "id" {
+				c.IDs = append(c.IDs, p.Value.(string))
+			}
+		}
+		c.Features = append(c.Features, f)
+	}
+	centre := float64(g-1) * step / 2
+	type side struct {
+		a, b [2]float64 // local metres
+		id   string
+	}
+	var sides []side
+	mh := 0
+	for i := 0; i < g; i++ {
+		for j := 0; j < g; j++ {
+			if r.Float64() < 0.5 {
+				mh++
+				p := node[i][j]
+				typ := "maintenance-hole"
+				if r.Float64() < 0.4 {
+					typ = "handhole"
+				}
+				add(Feature{Geometry: "Point", Coords: [][][2]float64{{ll(p[0], p[1])}},
+					Props: []Prop{{"kind", "structure"}, {"id", fmt.Sprintf("MH-%d", mh)}, {"type", typ}}})
+			}
+			for _, d := range [][2]int{{1, 0}, {0, 1}} {
+				ni, nj := i+d[0], j+d[1]
+				if ni >= g || nj >= g {
+					continue
+				}
+				sides = append(sides, side{node[i][j], node[ni][nj], fmt.Sprintf("S%d-%d-%c", i, j, "EN"[d[1]])})
+			}
+		}
+	}
+	// Street pathways, each drawn with two or three interior vertices.
+	type street struct {
+		side
+		pts    [][2]float64
+		broken bool
+	}
+	streets := make([]street, len(sides))
+	for k, s := range sides {
+		nv := 2 + r.IntN(2)
+		pts := [][2]float64{s.a}
+		for v := 1; v <= nv; v++ {
+			t := float64(v) / float64(nv+1)
+			pts = append(pts, [2]float64{s.a[0] + (s.b[0]-s.a[0])*t + (r.Float64()-0.5)*3, s.a[1] + (s.b[1]-s.a[1])*t + (r.Float64()-0.5)*3})
+		}
+		pts = append(pts, s.b)
+		streets[k] = street{side: s, pts: pts}
+		props := []Prop{{"kind", "pathway"}, {"id", s.id}}
+		mid := [2]float64{(s.a[0] + s.b[0]) / 2, (s.a[1] + s.b[1]) / 2}
+		dc := math.Hypot(mid[0]-centre, mid[1]-centre)
+		edge := dc > 0.8*centre
+		switch x := r.Float64(); {
+		case x < prop/100:
+			props = append(props, Prop{"status", "proposed"}, Prop{"type", []string{"duct", "buried"}[r.IntN(2)]},
+				Prop{"surface", []string{"turf", "asphalt", "concrete"}[r.IntN(3)]})
+		case dc < 0.35*centre && r.Float64() < 0.5:
+			props = append(props, Prop{"type", "tunnel"})
+		case edge && r.Float64() < 0.4:
+			props = append(props, Prop{"type", "aerial"})
+		default:
+			props = append(props, Prop{"spare_ducts", []int{0, 0, 1, 1, 2, 3}[r.IntN(6)]}, Prop{"duct_mm", []int{100, 100, 50}[r.IntN(3)]})
+		}
+		switch x := r.Float64(); {
+		case x < 0.06:
+			props = append(props, Prop{"emi", "high"})
+		case x < 0.15:
+			props = append(props, Prop{"emi", "low"})
+		}
+		line := pts
+		interior := s.a != node[0][0] && s.b != node[g-1][g-1] && min(s.a[0], s.a[1]) > 0.5*step && max(s.b[0], s.b[1]) < (float64(g)-1.5)*step
+		if interior && r.Float64() < 0.06 {
+			streets[k].broken = true
+			// A broken run: the duct was never finished; it stops short of the far junction.
+			line = append(slices.Clone(pts[:len(pts)-1]), [2]float64{(pts[len(pts)-2][0] + pts[len(pts)-1][0]) / 2, (pts[len(pts)-2][1] + pts[len(pts)-1][1]) / 2})
+		}
+		add(lineFeature(line, props))
+		if r.Float64() < 0.08 {
+			// A parallel duct bank between the same junctions, drawn a few metres aside.
+			par := [][2]float64{s.a}
+			for _, p := range pts[1 : len(pts)-1] {
+				par = append(par, [2]float64{p[0] + 4, p[1] - 4})
+			}
+			par = append(par, s.b)
+			add(lineFeature(par, []Prop{{"kind", "pathway"}, {"id", s.id + "-B"}, {"spare_ducts", r.IntN(3)}, {"group", s.id}}))
+		}
+	}
+	// Proposed diagonals across some blocks.
+	for i := 0; i+1 < g; i++ {
+		for j := 0; j+1 < g; j++ {
+			if r.Float64() < 0.08 {
+				a, b := node[i][j], node[i+1][j+1]
+				add(lineFeature([][2]float64{a, {(a[0] + b[0]) / 2, (a[1] + b[1]) / 2}, b}, []Prop{{"kind", "pathway"},
+					{"id", fmt.Sprintf("D%d-%d", i, j)}, {"status", "proposed"}, {"type", "buried"}, {"surface", "turf"}}))
+			}
+		}
+	}
+	// Buildings beside streets, each joined at an interior vertex of its street.
+	order := r.Perm(len(streets))
+	var placedAt []int // feature index of each building
+	type placed struct{ cx, cy, half float64 }
+	var done []placed
+	clear := func(cx, cy, half float64) bool {
+		for _, q := range done {
+			if math.Abs(q.cx-cx) < q.half+half+8 && math.Abs(q.cy-cy) < q.half+half+8 {
+				return false
+			}
+		}
+		for _, st := range streets {
+			for k := 1; k < len(st.pts); k++ {
+				if segDist(cx, cy, st.pts[k-1], st.pts[k]) < half*math.Sqrt2+4 {
+					return false
+				}
+			}
+		}
+		return true
+	}
+	b := 0
+	for _, si := range order {
+		if b >= n {
+			break
+		}
+		s := streets[si]
+		if s.broken {
+			continue
+		}
+		var p [2]float64
+		var dx, dy, off, half, cx, cy float64
+		ok := false
+		for try := 0; try < 8 && !ok; try++ {
+			p = s.pts[1+r.IntN(len(s.pts)-2)]
+			dx, dy = s.b[1]-s.a[1], -(s.b[0] - s.a[0]) // a normal of the street
+			l := math.Hypot(dx, dy)
+			dx, dy = dx/l, dy/l
+			if r.IntN(2) == 0 {
+				dx, dy = -dx, -dy
+			}
+			off = 12 + 18*r.Float64()
+			half = 6 + 14*r.Float64()
+			cx, cy = p[0]+dx*(off+half), p[1]+dy*(off+half)
+			ok = clear(cx, cy, half)
+		}
+		if !ok {
+			continue
+		}
+		done = append(done, placed{cx, cy, half})
+		id := fmt.Sprintf("B%03d", b)
+		props := []Prop{{"kind", "building"}, {"id", id}, {"name", "Hall " + strconv.Itoa(b)},
+			{"riser_m", math.Round(400*r.Float64()) / 10}}
+		placedAt = append(placedAt, len(c.Features))
+		add(Feature{Geometry: "Polygon", Coords: [][][2]float64{{ll(cx-half, cy-half), ll(cx+half, cy-half),
+			ll(cx+half, cy+half), ll(cx-half, cy+half), ll(cx-half, cy-half)}}, Props: props})
+		// The lateral, drawn as a pathway from the street vertex to the footprint's edge; a
+		// few buildings have none and are reached by a counted lateral (within 30 m).
+		if off > 20 || r.Float64() < 0.7 {
+			add(lineFeature([][2]float64{p, {p[0] + dx*off, p[1] + dy*off}}, []Prop{{"kind", "pathway"},
+				{"id", id + "-L"}, {"spare_ducts", r.IntN(3)}}))
+		}
+		b++
+	}
+	// The main cross-connect and up to two intermediate ones, among the buildings placed.
+	roles := r.Perm(len(placedAt))
+	for k, bi := range roles[:min(3, len(roles))] {
+		f := &c.Features[placedAt[bi]]
+		if k == 0 {
+			f.Props = append(f.Props, Prop{"role", "mc"})
+			c.Hub = f.Props[1].Value.(string)
+			continue
+		}
+		f.Props = append(f.Props, Prop{"role", "ic"})
+	}
+	return c
+}
+
+// segDist is the distance in metres from (x, y) to the segment a–b.
+func segDist(x, y float64, a, b [2]float64) float64 {
+	vx, vy := b[0]-a[0], b[1]-a[1]
+	t := ((x-a[0])*vx + (y-a[1])*vy) / (vx*vx + vy*vy)
+	t = min(max(t, 0), 1)
+	return math.Hypot(x-a[0]-t*vx, y-a[1]-t*vy)
+}
+
+func lineFeature(pts [][2]float64, props []Prop) Feature {
+	line := make([][2]float64, len(pts))
+	for i, p := range pts {
+		line[i] = ll(p[0], p[1])
+	}
+	return Feature{Geometry: "LineString", Coords: [][][2]float64{line}, Props: props}
+}
+
+// GeoJSON writes features as a FeatureCollection.
+func GeoJSON(fs []Feature) []byte {
+	var b strings.Builder
+	b.WriteString(`{"type":"FeatureCollection","features":[`)
+	for i, f := range fs {
+		if i > 0 {
+			b.WriteString(",\n")
+		}
+		b.WriteString(`{"type":"Feature","properties":{`)
+		for k, p := range f.Props {
+			if k > 0 {
+				b.WriteByte(',')
+			}
+			b.WriteString(strconv.Quote(p.Key) + ":")
+			switch v := p.Value.(type) {
+			case string:
+				b.WriteString(strconv.Quote(v))
+			case float64:
+				b.WriteString(strconv.FormatFloat(v, 'f', -1, 64))
+			case int:
+				b.WriteString(strconv.Itoa(v))
+			case bool:
+				b.WriteString(strconv.FormatBool(v))
+			default:
+				panic(fmt.Sprintf("campusgen: property %s: unsupported %T", p.Key, v))
+			}
+		}
+		b.WriteString(`},"geometry":{"type":"` + f.Geometry + `","coordinates":`)
+		switch f.Geometry {
+		case "Point":
+			b.WriteString(pos(f.Coords[0][0]))
+		case "LineString":
+			b.WriteString(line(f.Coords[0]))
+		default: // MultiLineString, Polygon
+			b.WriteByte('[')
+			for i, l := range f.Coords {
+				if i > 0 {
+					b.WriteByte(',')
+				}
+				b.WriteString(line(l))
+			}
+			b.WriteByte(']')
+		}
+		b.WriteString("}}")
+	}
+	b.WriteString("]}\n")
+	return []byte(b.String())
+}
+
+func pos(p [2]float64) string {
+	return "[" + strconv.FormatFloat(p[0], 'f', 9, 64) + "," + strconv.FormatFloat(p[1], 'f', 9, 64) + "]"
+}
+
+func line(l [][2]float64) string {
+	parts := make([]string, len(l))
+	for i, p := range l {
+		parts[i] = pos(p)
+	}
+	return "[" + strings.Join(parts, ",") + "]"
+}
