@@ -38,18 +38,25 @@ const pullCacheSize = 8192
 // solve runs the optimizer, or returns the solution of an identical problem solved before on
 // this site. Solve is deterministic, so the answer is the same either way; the returned
 // solution is shared and must not be modified.
+//
+// The optimizer sees the problem in canonical order (canon.go), so that the plan depends on
+// the campus's geometry and costs, not on the names of its ids.
 func (s *Site) solve(prob *optimize.Problem, opt optimize.Settings) (*optimize.Solution, error) {
-	key, ok := optimize.Fingerprint(prob, opt)
+	c := canonicalize(prob, func(n int) [2]float64 { return s.Net.Junctions[n].Point })
+	key, ok := optimize.Fingerprint(c.prob, opt)
 	if ok {
 		if sol, hit := s.solved.Get(key); hit {
-			return sol, nil
+			return c.back(sol), nil
 		}
 	}
-	sol, err := optimize.Solve(prob, opt)
-	if err == nil && ok {
+	sol, err := optimize.Solve(c.prob, opt)
+	if err != nil {
+		return nil, err
+	}
+	if ok {
 		s.solved.Add(key, sol)
 	}
-	return sol, err
+	return c.back(sol), nil
 }
 
 // SiteOptions are the noding options a site is built with.
