@@ -3,7 +3,7 @@
 GO ?= go
 BIN := bin/spanwright
 
-.PHONY: build test race demo golden bench fuzz e2e clean
+.PHONY: build test race soak demo golden bench fuzz e2e clean
 
 build:
 	$(GO) build -o $(BIN) ./cmd/spanwright
@@ -17,6 +17,12 @@ test:
 # sweep's worker pool and the caches shared by its scenarios are the concurrent parts.
 race:
 	$(GO) test -race -count=1 ./...
+
+# the metamorphic properties (route/metamorphic) on 300 generated campuses of 40 buildings and
+# 20 of 300, instead of make test's 8 of 40 (not part of make test; about ten minutes).
+soak:
+	SPANWRIGHT_SOAK=300 $(GO) test -count=1 -timeout 2h ./route/metamorphic/
+	SPANWRIGHT_SOAK=20 SPANWRIGHT_SOAK_BUILDINGS=300 $(GO) test -count=1 -timeout 2h ./route/metamorphic/
 
 # plan the embedded demo campus into demo-out/
 demo: build

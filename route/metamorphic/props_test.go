@@ -4,7 +4,9 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"os"
 	"runtime"
+	"strconv"
 	"slices"
 	"strings"
 	"testing"
@@ -188,5 +190,24 @@ func TestCores(t *testing.T) {
 	}
 }
 
-func seeds() []uint64 { return quickSeeds }
-func size() int       { return quickSize }
+// seeds are the campuses to run: the quick ones, or with SPANWRIGHT_SOAK=N (make soak) N
+// campuses from seed 1000 on.
+func seeds() []uint64 {
+	n, _ := strconv.Atoi(os.Getenv("SPANWRIGHT_SOAK"))
+	if n <= 0 {
+		return quickSeeds
+	}
+	out := make([]uint64, n)
+	for i := range out {
+		out[i] = 1000 + uint64(i)
+	}
+	return out
+}
+
+// size is the number of buildings of each campus: quickSize, or SPANWRIGHT_SOAK_BUILDINGS.
+func size() int {
+	if n, _ := strconv.Atoi(os.Getenv("SPANWRIGHT_SOAK_BUILDINGS")); n > 0 {
+		return n
+	}
+	return quickSize
+}
