@@ -58,10 +58,8 @@ func newScenario(seed uint64, buildings int) (*campusgen.Campus, scenario) {
 func outputs(t *testing.T, sc scenario) (map[string][]byte, *route.Result) {
 	t.Helper()
 	fsys := fstest.MapFS{}
-	var names []string
 	for name, data := range sc.files {
 		fsys[name] = &fstest.MapFile{Data: data}
-		names = append(names, name)
 	}
 	p, err := route.ParsePlan("plan.yaml", []byte(sc.plan))
 	if err != nil {

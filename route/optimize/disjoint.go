@@ -191,7 +191,7 @@ func disjointPair(ps *pairScratch, s, t int, w func(e int32) (int64, bool), h he
 	// Both legs together use at most the edges of P1 and P2: one backing array serves both.
 	buf := make([]Hop, 0, len(p1)+len(p2))
 	for k := 0; k < 2; k++ {
-		leg := buf[len(buf):len(buf)]
+		leg := buf[len(buf):]
 		u := int32(s)
 		e, x := srcE[k], srcV[k]
 		for steps := 0; ; steps++ {

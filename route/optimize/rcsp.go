@@ -23,12 +23,11 @@ import "math"
 const maxLabels = 400000
 
 type label struct {
-	node   int32
-	edge   int32 // edge into node, -1 at the source
-	prev   int32 // previous label, -1 at the source
-	cost   int64
-	lenMM  int64
-	settle bool
+	node  int32
+	edge  int32 // edge into node, -1 at the source
+	prev  int32 // previous label, -1 at the source
+	cost  int64
+	lenMM int64
 }
 
 // rcspScratch is reusable label storage.
