@@ -1,9 +1,12 @@
 package route
 
 import (
+	"cmp"
 	"fmt"
 	"math"
+	"slices"
 	"sort"
+	"strings"
 
 	"spanwright/geo"
 	"spanwright/media"
@@ -41,15 +44,92 @@ type costModel struct {
 	// innerductPerM is the innerduct material per metre, when the design places innerduct;
 	// placing it costs labourPerM[duct] again (one more pull).
 	innerductPerM int64
+	allowedMemo   map[allowedKey]bool
+	// classes are the span classes of the campus in a fixed order, and classBit each one's flag.
+	classes  []spanClass
+	classBit map[spanClass]uint64
 }
 
-// Caller-defined edge flags (see optimize.FlagOutdoor): flagDuct marks a duct edge, so that a
-// cable too large for the design's innerduct can be kept off ducts; flagPlenum a tray in a
-// plenum, kept from media that have no plenum-rated construction.
+// Edge flags. flagDuct marks a duct edge, so that a cable too large for the design's
+// innerduct can be kept off ducts. Every other flag is a span class (spanClass): the bit
+// firstClassFlag << k marks the edges of the k-th class in the campus, and an option
+// excludes the classes on which the rule engine does not let its medium run.
 const (
-	flagDuct   = optimize.FlagOutdoor << 1
-	flagPlenum = optimize.FlagOutdoor << 2
+	flagDuct       = optimize.FlagOutdoor << 1
+	firstClassFlag = flagDuct << 1
 )
+
+// spanClass is what a span tells the rule engine about a route that runs on it: its EMI
+// level, whether it is outdoors (every pathway but a tray), whether it is in a plenum, and its
+// pathway type. Which media may run on a span is the rule engine's answer for a route with
+// these facts (allowed), so a rule added to or removed from a rules file changes where the
+// optimizer may route a medium; no medium rule is written in Go.
+type spanClass struct {
+	emi             string
+	outdoor, plenum bool
+	typ             string
+}
+
+func classOf(sp *geo.Span) spanClass {
+	emi := sp.EMI
+	if emi == "" {
+		emi = geo.EMINone
+	}
+	return spanClass{emi: emi, outdoor: sp.Type != geo.TypeTray, plenum: sp.Plenum, typ: sp.Type}
+}
+
+// lateralClass is a counted lateral: a buried run out of the building with no EMI data.
+var lateralClass = spanClass{emi: geo.EMINone, outdoor: true, typ: geo.TypeBuried}
+
+func (c spanClass) facts(l media.Link) media.Link {
+	l.MaxEMI, l.Outdoor, l.Plenum, l.PathwayTypes = c.emi, c.outdoor, c.plenum, []string{c.typ}
+	return l
+}
+
+func (c spanClass) String() string {
+	s := c.typ
+	if c.emi != geo.EMINone {
+		s += ", " + c.emi + " EMI"
+	}
+	if c.plenum {
+		s += ", plenum"
+	}
+	return s
+}
+
+// allowedKey is what allowed's answer depends on.
+type allowedKey struct {
+	medium       string
+	rate, future float64
+	strands      int
+	class        spanClass
+}
+
+// allowed reports whether the rules let medium carry a link of rate (and future rate) and
+// strands on spans of class c, at some length, with no risers or slack: the rules that depend
+// on the whole route or its ends are the media choice's to apply, on the route's own facts.
+func (m *costModel) allowed(medium string, rate, future float64, strands int, c spanClass) bool {
+	k := allowedKey{medium, rate, future, strands, c}
+	if v, ok := m.allowedMemo[k]; ok {
+		return v
+	}
+	l := c.facts(media.Link{ConnectorPairs: ConnectorPairs, Strands: strands})
+	v := m.eng.MaxChannelM(medium, rate, future, l) > 0
+	m.allowedMemo[k] = v
+	return v
+}
+
+// whyNot is the rule engine's reason for keeping medium off spans of class c.
+func (m *costModel) whyNot(medium string, facts media.Link, c spanClass) string {
+	l := c.facts(facts)
+	l.RouteM = 1
+	for _, r := range m.eng.Choose(l).Rejected {
+		if r.Medium == medium {
+			return r.Reason
+		}
+	}
+	return medium + " is not allowed there"
+}
 
 // innerductFits reports whether a cable of the given outside diameter fits the design's
 // innerduct: one cable at most 53 % of its inside area (NFPA 70 Chapter 9 Table 1, one cable).
@@ -69,7 +149,8 @@ func (m *costModel) ductPerCablePerM() int64 {
 // newCostModel reads the labour rates the plan needs; a missing rate is an error naming its key.
 func newCostModel(eng *media.Engine, d Design) (*costModel, error) {
 	p := eng.PriceBook()
-	m := &costModel{eng: eng, prices: p, design: d, labourPerM: map[string]int64{}}
+	m := &costModel{eng: eng, prices: p, design: d, labourPerM: map[string]int64{},
+		allowedMemo: map[allowedKey]bool{}}
 	hour, ok := p.Price(media.PriceKey{Item: media.PriceLabourHour})
 	var missing []string
 	if !ok {
@@ -141,6 +222,21 @@ func (s *Site) problem(m *costModel, links []Link) (*optimize.Problem, []demandI
 	for i, n := range names {
 		groups[n] = i + 1
 	}
+	m.classes, m.classBit = nil, map[spanClass]uint64{}
+	for i := range net.Spans {
+		if c := classOf(&net.Spans[i]); m.classBit[c] == 0 {
+			m.classBit[c] = 1 // numbered below, in a fixed order
+			m.classes = append(m.classes, c)
+		}
+	}
+	slices.SortFunc(m.classes, func(a, b spanClass) int {
+		return cmp.Or(strings.Compare(a.typ, b.typ), strings.Compare(a.emi, b.emi), boolCmp(a.outdoor, b.outdoor), boolCmp(a.plenum, b.plenum))
+	})
+	for k, c := range m.classes {
+		// At most 5 pathway types × 3 EMI levels × plenum or not: 30 classes, well within
+		// the flags above firstClassFlag.
+		m.classBit[c] = firstClassFlag << k
+	}
 	addDuct, _ := m.prices.Price(media.PriceKey{Item: media.PriceAddedDuct})
 	p := &optimize.Problem{Nodes: len(net.Junctions), AllowNew: m.design.AllowNewTrench,
 		Edges: make([]optimize.Edge, len(net.Spans))}
@@ -150,19 +246,10 @@ func (s *Site) problem(m *costModel, links []Link) (*optimize.Problem, []demandI
 		u, _ := s.Graph.NodeOf(sp.From)
 		v, _ := s.Graph.NodeOf(sp.To)
 		e := optimize.Edge{ID: sp.ID, From: int(u), To: int(v), LengthM: sp.LengthM,
-			LabourPerMCents: m.labourPerM[sp.Type], Group: groups[sp.Group]}
-		if sp.EMI == geo.EMIHigh {
-			e.Flags |= optimize.FlagHighEMI
-		}
-		if sp.Type != geo.TypeTray {
-			e.Flags |= optimize.FlagOutdoor
-		}
+			LabourPerMCents: m.labourPerM[sp.Type], Group: groups[sp.Group], Flags: m.classBit[classOf(sp)]}
 		if sp.Type == geo.TypeDuct {
 			e.Flags |= flagDuct
 			e.LabourPerMCents += m.ductPerCablePerM()
-		}
-		if sp.Plenum {
-			e.Flags |= flagPlenum
 		}
 		work, err := m.newWorkPerMCents(sp)
 		if sp.Status == geo.StatusProposed {
@@ -221,16 +308,14 @@ func (s *Site) demand(m *costModel, l *Link) (optimize.Demand, demandInfo) {
 	d := optimize.Demand{ID: l.ID, Source: int(srcN), Target: int(dstN), Diverse: l.Diverse}
 	for _, med := range m.eng.Media() {
 		mm := m.eng.Catalog().Medium(med)
-		copper := !mm.Fibre()
+		if lateral > 0 && !m.allowed(med, rate, future, strands, lateralClass) {
+			info.excluded = append(info.excluded, fmt.Sprintf("%s: the route leaves a building over a lateral: %s", med, m.whyNot(med, facts, lateralClass)))
+			continue
+		}
 		var exclude uint64
-		if copper {
-			exclude |= optimize.FlagHighEMI
-			if !m.design.AllowOutdoorCopper {
-				if lateral > 0 {
-					info.excluded = append(info.excluded, med+": the route leaves a building over a lateral")
-					continue
-				}
-				exclude |= optimize.FlagOutdoor
+		for _, c := range m.classes {
+			if !m.allowed(med, rate, future, strands, c) {
+				exclude |= m.classBit[c]
 			}
 		}
 		maxCh := m.eng.MaxChannelM(med, rate, future, facts)
@@ -248,9 +333,6 @@ func (s *Site) demand(m *costModel, l *Link) (optimize.Demand, demandInfo) {
 		// Route-independent lengths (risers, laterals, slack) cost the same whatever the path.
 		fixed += media.MulCents(perM, riser+lateral+slack) + media.MulCents(m.labourPerM[geo.TypeTray], riser) +
 			media.MulCents(m.labourPerM[geo.TypeBuried], lateral)
-		if !plenumRated(mm) {
-			exclude |= flagPlenum
-		}
 		od := cableOD(mm, strands)
 		if m.design.Innerduct() {
 			if !m.design.innerductFits(od) {
@@ -265,16 +347,6 @@ func (s *Site) demand(m *costModel, l *Link) (optimize.Demand, demandInfo) {
 		info.options = append(info.options, med)
 	}
 	return d, info
-}
-
-// plenumRated reports whether the medium has a plenum-rated construction.
-func plenumRated(m *media.Medium) bool {
-	for _, k := range m.Constructions {
-		if k.PlenumRated {
-			return true
-		}
-	}
-	return false
 }
 
 // cableOD is the outside diameter in millimetres of the outdoor-rated cable of the medium

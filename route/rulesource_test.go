@@ -1,0 +1,101 @@
+package route
+
+import (
+	"strings"
+	"testing"
+
+	"spanwright/media"
+)
+
+// rulesWith is the default rule file with the rule id dropped (when drop is set) and extra
+// YAML rules appended.
+func rulesWith(t *testing.T, drop, extra string) *media.Rules {
+	t.Helper()
+	def := media.DefaultRules()
+	var keep []*media.Rule
+	for _, r := range def.Rules {
+		if r.ID != drop {
+			keep = append(keep, r)
+		}
+	}
+	r := *def
+	r.Rules = keep
+	if extra != "" {
+		more, err := media.ParseRules("extra.yaml", []byte("rules:\n"+extra))
+		if err != nil {
+			t.Fatal(err)
+		}
+		r.Rules = append(r.Rules, more.Rules...)
+	}
+	return &r
+}
+
+// excluded lists, for the demo campus's problem under rules, the span classes each medium is
+// kept off, as "medium:class".
+func excluded(t *testing.T, rules *media.Rules) map[string]bool {
+	t.Helper()
+	s, p := demoSite(t)
+	eng, err := media.NewEngine(nil, rules, nil, EngineOptions(p))
+	if err != nil {
+		t.Fatal(err)
+	}
+	hub, _ := s.Hub(p)
+	links, errs := s.Links(p, hub)
+	if len(errs) > 0 {
+		t.Fatal(errs)
+	}
+	cm, err := newCostModel(eng, p.Design)
+	if err != nil {
+		t.Fatal(err)
+	}
+	prob, _, err := s.problem(cm, links)
+	if err != nil {
+		t.Fatal(err)
+	}
+	out := map[string]bool{}
+	for _, d := range prob.Demands {
+		for _, o := range d.Options {
+			for _, c := range cm.classes {
+				if o.ExcludeFlags&cm.classBit[c] != 0 {
+					out[o.Name+":"+c.String()] = true
+				}
+			}
+		}
+	}
+	// Every edge carries its class's flag.
+	for i, e := range prob.Edges {
+		if e.Flags&cm.classBit[classOf(&s.Net.Spans[i])] == 0 {
+			t.Fatalf("edge %s lacks its class flag", e.ID)
+		}
+	}
+	return out
+}
+
+// TestOneRuleSource: which spans a medium may use comes from the rule file, both ways. The
+// default copper-emi rule (common practice, no published source) keeps copper off high-EMI
+// spans; without it copper may use them. A rule added to the file keeps its medium off the
+// spans it names.
+func TestOneRuleSource(t *testing.T) {
+	t.Parallel()
+	def := excluded(t, nil)
+	if !def["cat6a:duct, high EMI"] {
+		t.Fatalf("default rules: copper not kept off high-EMI ducts; excluded: %v", def)
+	}
+	if def["os2:duct, high EMI"] {
+		t.Errorf("default rules: fibre kept off high-EMI ducts")
+	}
+	noEMI := excluded(t, rulesWith(t, "copper-emi", ""))
+	for k := range noEMI {
+		if strings.Contains(k, "high EMI") && strings.HasPrefix(k, "cat6a:") && !def[strings.Replace(k, ", high EMI", "", 1)] {
+			t.Errorf("without copper-emi: %s still excluded", k)
+		}
+	}
+	aerial := excluded(t, rulesWith(t, "", `  - {id: om3-not-aerial, media: [om3], when: "has_aerial", effect: exclude, reason: "test rule", source: test}
+`))
+	if !aerial["om3:aerial"] || def["om3:aerial"] {
+		t.Errorf("an added rule keeping om3 off aerial spans: default %v, with the rule %v", def["om3:aerial"], aerial["om3:aerial"])
+	}
+	if aerial["om4:aerial"] {
+		t.Errorf("the added om3 rule kept om4 off aerial spans")
+	}
+}
