@@ -6,8 +6,8 @@ import (
 	"math/rand/v2"
 	"os"
 	"runtime"
-	"strconv"
 	"slices"
+	"strconv"
 	"strings"
 	"testing"
 
