@@ -26,21 +26,17 @@ func lerpLL(a, b orb.Point, t float64) orb.Point {
 	return orb.Point{a[0] + (b[0]-a[0])*t, a[1] + (b[1]-a[1])*t}
 }
 
-// earthRadiusM is the radius used by the local projection, in metres; the projection only
-// decides what is near what, so its small scale error does not reach any length.
-const earthRadiusM = meanRadiusM
-
-// projector is an equirectangular projection around a campus's centre.
-type projector struct{ lon0, lat0, kx, ky float64 }
+// projector is the campus's local projection (Local) about its centre, giving vecs.
+type projector struct{ Local }
 
 func newProjector(b orb.Bound) projector {
 	c := b.Center()
-	ky := earthRadiusM * deg
-	return projector{lon0: c[0], lat0: c[1], kx: ky * math.Cos(c[1]*deg), ky: ky}
+	return projector{NewLocal(c[0], c[1])}
 }
 
 func (p projector) xy(q orb.Point) vec {
-	return vec{(q[0] - p.lon0) * p.kx, (q[1] - p.lat0) * p.ky}
+	x, y := p.XY(q[0], q[1])
+	return vec{x, y}
 }
 
 // closestOnSeg returns the parameter t in [0, 1] of the point of segment ab nearest p, and

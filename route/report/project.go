@@ -3,24 +3,17 @@ package report
 import (
 	"math"
 	"strings"
-)
 
-// WGS84 ellipsoid: semi-major axis in metres and flattening (NIMA TR8350.2).
-const (
-	wgs84A = 6378137.0
-	wgs84F = 1 / 298.257223563
+	"spanwright/geo"
 )
 
 // xy is a point on the drawing, in SVG pixels (y down).
 type xy struct{ X, Y float64 }
 
-// projection maps longitude/latitude in degrees to drawing pixels: a local equirectangular
-// projection about the centre of the drawn area, scaled by the ellipsoid's meridian and
-// prime-vertical radii of curvature there, north up. Over a campus (a few km) its scale
-// error is far below a pixel.
+// projection maps longitude/latitude in degrees to drawing pixels: geo's local projection
+// (geo.Local) about the centre of the drawn area, scaled to pixels, north up.
 type projection struct {
-	lon0, lat0         float64 // centre, degrees
-	mPerDegX, mPerDegY float64 // metres per degree of longitude and of latitude at lat0
+	local              geo.Local
 	pxPerM             float64
 	cx, cy             float64 // pixel position of the centre
 	widthPx, heightPx  float64
@@ -55,16 +48,9 @@ func newProjection(b bounds, widthPx, maxHeightPx, marginPx float64) *projection
 	if !b.any {
 		b = bounds{any: true}
 	}
-	p := &projection{lon0: (b.minLon + b.maxLon) / 2, lat0: (b.minLat + b.maxLat) / 2, marginPx: marginPx}
-	phi := p.lat0 * math.Pi / 180
-	e2 := wgs84F * (2 - wgs84F)
-	w := 1 - e2*math.Sin(phi)*math.Sin(phi)
-	n := wgs84A / math.Sqrt(w)                  // prime vertical radius of curvature
-	m := wgs84A * (1 - e2) / (w * math.Sqrt(w)) // meridian radius of curvature
-	p.mPerDegX = n * math.Cos(phi) * math.Pi / 180
-	p.mPerDegY = m * math.Pi / 180
-	p.extentXM = math.Max((b.maxLon-b.minLon)*p.mPerDegX, 1)
-	p.extentYM = math.Max((b.maxLat-b.minLat)*p.mPerDegY, 1)
+	p := &projection{local: geo.NewLocal((b.minLon+b.maxLon)/2, (b.minLat+b.maxLat)/2), marginPx: marginPx}
+	p.extentXM = math.Max((b.maxLon-b.minLon)*p.local.MPerDegX, 1)
+	p.extentYM = math.Max((b.maxLat-b.minLat)*p.local.MPerDegY, 1)
 	inner := widthPx - 2*marginPx
 	p.pxPerM = inner / p.extentXM
 	if h := p.extentYM * p.pxPerM; h > maxHeightPx-2*marginPx-bandPx {
@@ -78,7 +64,8 @@ func newProjection(b bounds, widthPx, maxHeightPx, marginPx float64) *projection
 
 // at projects one longitude/latitude pair.
 func (p *projection) at(lon, lat float64) xy {
-	return xy{p.cx + (lon-p.lon0)*p.mPerDegX*p.pxPerM, p.cy - (lat-p.lat0)*p.mPerDegY*p.pxPerM}
+	x, y := p.local.XY(lon, lat)
+	return xy{p.cx + x*p.pxPerM, p.cy - y*p.pxPerM}
 }
 
 // line projects a line given as [lon, lat] pairs.
