@@ -1,12 +1,19 @@
 package report
 
 import (
+	"context"
+	"fmt"
+	"os"
+	"path/filepath"
 	"testing"
 
+	"spanwright/route"
+	"spanwright/route/internal/campusgen"
 	"spanwright/route/sweep"
 )
 
-// BenchmarkPlan renders the demo's plan report (30 buildings, 85 pathways, 32 legs).
+// BenchmarkPlan renders the plan report of the demo (30 buildings, 85 pathways, 32 legs) and
+// of a generated campus of 1,000 buildings (about 2,900 pathways, 1,000 legs).
 func BenchmarkPlan(b *testing.B) {
 	t := &testing.T{}
 	r := result(t, demoPlan)
@@ -18,6 +25,39 @@ func BenchmarkPlan(b *testing.B) {
 			}
 		}
 	})
+	b.Run("buildings_1000", func(b *testing.B) {
+		r := generated(b, 1000)
+		b.ReportAllocs()
+		b.ResetTimer()
+		for b.Loop() {
+			if _, err := Plan(r, Options{}); err != nil {
+				b.Fatal(err)
+			}
+		}
+	})
+}
+
+// generated plans a campus of n buildings from campusgen.
+func generated(b *testing.B, n int) *route.Result {
+	b.Helper()
+	c := campusgen.Generate(1, campusgen.Options{Buildings: n})
+	dir := b.TempDir()
+	if err := os.WriteFile(filepath.Join(dir, "campus.geojson"), campusgen.GeoJSON(c.Features), 0o644); err != nil {
+		b.Fatal(err)
+	}
+	p, err := route.ParsePlan(filepath.Join(dir, "plan.yaml"), []byte(fmt.Sprintf("name: generated\ncampus: [campus.geojson]\nhub: %s\n", c.Hub)))
+	if err != nil {
+		b.Fatal(err)
+	}
+	site, err := route.LoadSite(nil, []string{filepath.Join(dir, "campus.geojson")}, route.SiteOptions{})
+	if err != nil {
+		b.Fatal(err)
+	}
+	r, err := route.Solve(context.Background(), site, p)
+	if err != nil {
+		b.Fatal(err)
+	}
+	return r
 }
 
 // BenchmarkSweep renders a comparison of 1,000 scenarios.

@@ -296,22 +296,18 @@ func newScaleBar(p *projection, opt Options) scaleBar {
 // written here rather than in the template; every text and attribute value goes through
 // html/template's escaper, and attribute values are always double-quoted.
 func (m mapView) HTML() template.HTML {
-	var b strings.Builder
-	b.Grow(64 << 10)
-	w := func(ss ...string) {
-		for _, s := range ss {
-			b.WriteString(s)
-		}
-	}
-	paths := func(group string, ps []svgPath, extra string) {
-		w(`<g class="`, group, `">`)
-		for _, p := range ps {
-			w(`<path d="`, p.D, `" class="`, esc(p.Class), `"`, extra, `><title>`, esc(p.Title), `</title></path>`)
+	var p page
+	p.b.Grow(64 << 10)
+	w := p.w
+	paths := func(group string, ps []svgPath, extra markup) {
+		w(`<g class="`, t(group), `">`)
+		for _, q := range ps {
+			w(`<path d="`, t(q.D), `" class="`, t(q.Class), `"`, extra, `><title>`, t(q.Title), `</title></path>`)
 		}
 		w("</g>\n")
 	}
-	w(`<svg class="map" viewBox="0 0 `, m.W, " ", m.H, `" role="img" aria-label="campus map with the planned routes">`, "\n")
-	w(`<rect x="0" y="0" width="`, m.W, `" height="`, m.H, `" class="map-bg"/>`, "\n")
+	w(`<svg class="map" viewBox="0 0 `, t(m.W), " ", t(m.H), `" role="img" aria-label="campus map with the planned routes">`, "\n")
+	w(`<rect x="0" y="0" width="`, t(m.W), `" height="`, t(m.H), `" class="map-bg"/>`, "\n")
 	paths("halos", m.Halos, "")
 	bs := make([]svgPath, len(m.Buildings))
 	for i, bd := range m.Buildings {
@@ -322,44 +318,45 @@ func (m mapView) HTML() template.HTML {
 	paths("laterals", m.Laterals, "")
 	w(`<g class="casings">`)
 	for _, r := range m.Routes {
-		w(`<path d="`, r.D, `" class="casing"/>`)
+		w(`<path d="`, t(r.D), `" class="casing"/>`)
 	}
 	w("</g>\n", `<g class="routes">`)
 	for _, r := range m.Routes {
-		w(`<path d="`, r.D, `" class="route" stroke="`, esc(r.Stroke), `"`)
+		w(`<path d="`, t(r.D), `" class="route" stroke="`, t(r.Stroke), `"`)
 		if r.Dash != "" {
-			w(` stroke-dasharray="`, esc(r.Dash), `"`)
+			w(` stroke-dasharray="`, t(r.Dash), `"`)
 		}
-		w(` data-leg="`, esc(r.Leg), `" data-medium="`, esc(r.Medium), `"><title>`, esc(r.Title), `</title></path>`)
+		w(` data-leg="`, t(r.Leg), `" data-medium="`, t(r.Medium), `"><title>`, t(r.Title), `</title></path>`)
 	}
 	w("</g>\n", `<g class="structures">`)
 	for _, s := range m.Structures {
-		title := `<title>` + esc(s.Title) + `</title>`
+		title := `<title>` + t(s.Title) + `</title>`
+		x, y, cls := t(s.X), t(s.Y), t(s.Class)
 		switch s.Shape {
 		case "circle":
-			w(`<circle cx="`, s.X, `" cy="`, s.Y, `" r="4.5" class="`, s.Class, `">`, title, `</circle>`)
+			w(`<circle cx="`, x, `" cy="`, y, `" r="4.5" class="`, cls, `">`, title, `</circle>`)
 		case "square":
-			w(`<rect x="`, s.X, `" y="`, s.Y, `" width="9" height="9" transform="translate(-4.5 -4.5)" class="`, s.Class, `">`, title, `</rect>`)
+			w(`<rect x="`, x, `" y="`, y, `" width="9" height="9" transform="translate(-4.5 -4.5)" class="`, cls, `">`, title, `</rect>`)
 		default:
-			w(`<path d="M0 -5.5L5.5 0L0 5.5L-5.5 0Z" transform="translate(`, s.X, " ", s.Y, `)" class="`, s.Class, `">`, title, `</path>`)
+			w(`<path d="M0 -5.5L5.5 0L0 5.5L-5.5 0Z" transform="translate(`, x, " ", y, `)" class="`, cls, `">`, title, `</path>`)
 		}
 	}
 	w("</g>\n", `<g class="labels">`)
 	for _, bd := range m.Buildings {
-		w(`<text x="`, bd.LabelX, `" y="`, bd.LabelY, `" class="`, bd.LabelCls, `" text-anchor="middle">`, esc(bd.ID), `</text>`)
+		w(`<text x="`, t(bd.LabelX), `" y="`, t(bd.LabelY), `" class="`, t(bd.LabelCls), `" text-anchor="middle">`, t(bd.ID), `</text>`)
 	}
 	w("</g>\n")
-	w(`<g class="north" transform="translate(`, m.NorthX, " ", m.NorthY, `)"><path d="M0 0L-7 22L0 17L7 22Z" class="north-arrow"/><text x="-12" y="20" text-anchor="end" class="lbl xc">N</text></g>`, "\n")
+	w(`<g class="north" transform="translate(`, t(m.NorthX), " ", t(m.NorthY), `)"><path d="M0 0L-7 22L0 17L7 22Z" class="north-arrow"/><text x="-12" y="20" text-anchor="end" class="lbl xc">N</text></g>`, "\n")
 	sb := m.Scale
 	w(`<g class="scalebar">`)
 	for _, s := range sb.Segs {
-		w(`<rect x="`, s.X, `" y="`, sb.Y, `" width="`, s.W, `" height="`, sb.BarHeight, `" class="`, s.Class, `"/>`)
+		w(`<rect x="`, t(s.X), `" y="`, t(sb.Y), `" width="`, t(s.W), `" height="`, t(sb.BarHeight), `" class="`, t(s.Class), `"/>`)
 	}
-	w("\n", `<text x="`, sb.ZeroX, `" y="`, sb.TextY, `" class="small" text-anchor="middle">0</text><text x="`, sb.EndX, `" y="`, sb.TextY,
-		`" class="small" text-anchor="middle">`, esc(sb.Label), `</text></g>`, "\n")
+	w("\n", `<text x="`, t(sb.ZeroX), `" y="`, t(sb.TextY), `" class="small" text-anchor="middle">0</text><text x="`, t(sb.EndX), `" y="`, t(sb.TextY),
+		`" class="small" text-anchor="middle">`, t(sb.Label), `</text></g>`, "\n")
 	if m.Empty {
 		w(`<text x="50%" y="50%" text-anchor="middle" class="lbl">nothing to draw</text>`, "\n")
 	}
 	w("</svg>")
-	return template.HTML(b.String())
+	return p.html()
 }

@@ -787,163 +787,157 @@ func pullRows(r *route.Result, opt Options) ([]pullRow, int) {
 	return out, over
 }
 
-// The pull and duct tables are long; their rows are written here rather than in the
-// template (an order of magnitude faster), every text through html/template's escaper.
-
-var esc = template.HTMLEscapeString
-
 // fillBar is a 100 px bar filled to w px, red when over; limitX, when not "", marks a limit.
-func fillBar(b *strings.Builder, w string, over bool, limitX string) {
-	cls := "f-ok"
+func fillBar(p *page, w string, over bool, limitX string) {
+	cls := markup("f-ok")
 	if over {
 		cls = "f-over"
 	}
-	b.WriteString(`<svg width="100" height="10" aria-hidden="true"><rect x="0" y="1" width="100" height="8" class="f-bg"/><rect x="0" y="1" width="`)
-	b.WriteString(w)
-	b.WriteString(`" height="8" class="` + cls + `"/>`)
+	p.w(`<svg width="100" height="10" aria-hidden="true"><rect x="0" y="1" width="100" height="8" class="f-bg"/><rect x="0" y="1" width="`,
+		t(w), `" height="8" class="`, cls, `"/>`)
 	if limitX != "" {
-		b.WriteString(`<line x1="` + limitX + `" y1="0" x2="` + limitX + `" y2="10" class="f-limit"/>`)
+		p.w(`<line x1="`, t(limitX), `" y1="0" x2="`, t(limitX), `" y2="10" class="f-limit"/>`)
 	}
-	b.WriteString(`</svg>`)
+	p.w(`</svg>`)
 }
 
-func td(b *strings.Builder, class, text string) {
+// td writes a table cell of text, with a class when class is not "".
+func td(p *page, class markup, text string) {
 	if class == "" {
-		b.WriteString("<td>")
+		p.w("<td>")
 	} else {
-		b.WriteString(`<td class="` + class + `">`)
+		p.w(`<td class="`, class, `">`)
 	}
-	b.WriteString(esc(text))
-	b.WriteString("</td>")
+	p.w(t(text), "</td>")
 }
 
 // HTML is the pull section's table row.
-func (p pullRow) HTML() template.HTML {
-	var b strings.Builder
-	b.Grow(640)
-	if p.Over {
-		b.WriteString(`<tr class="over">`)
+func (r pullRow) HTML() template.HTML {
+	var p page
+	p.b.Grow(640)
+	if r.Over {
+		p.w(`<tr class="over">`)
 	} else {
-		b.WriteString("<tr>")
+		p.w("<tr>")
 	}
-	b.WriteString("<td><b>" + esc(p.Link) + `</b> <span class="small">` + esc(p.Leg) + "</span></td>")
-	td(&b, "n", strconv.Itoa(p.Seq))
-	td(&b, "", p.From+" → "+p.To)
-	td(&b, "n", p.Length)
-	td(&b, "n", p.Bends)
-	td(&b, "", p.Feed)
-	td(&b, "n", p.Tension)
-	td(&b, "n", p.Other)
-	td(&b, "n", p.Rated)
-	b.WriteString(`<td class="margin">`)
-	fillBar(&b, p.BarW, p.Over, "")
-	if p.Over {
-		b.WriteString(" <b>over</b>")
+	p.w("<td><b>", t(r.Link), `</b> <span class="small">`, t(r.Leg), "</span></td>")
+	td(&p, "n", strconv.Itoa(r.Seq))
+	td(&p, "", r.From+" → "+r.To)
+	td(&p, "n", r.Length)
+	td(&p, "n", r.Bends)
+	td(&p, "", r.Feed)
+	td(&p, "n", r.Tension)
+	td(&p, "n", r.Other)
+	td(&p, "n", r.Rated)
+	p.w(`<td class="margin">`)
+	fillBar(&p, r.BarW, r.Over, "")
+	if r.Over {
+		p.w(" <b>over</b>")
 	}
-	b.WriteString("</td>")
-	td(&b, "n", p.SWBP)
-	td(&b, "", p.Added)
-	b.WriteString(`<td class="small">` + esc(p.Spans))
-	if p.Reason != "" {
-		b.WriteString("<br><b>" + esc(p.Reason) + "</b>")
+	p.w("</td>")
+	td(&p, "n", r.SWBP)
+	td(&p, "", r.Added)
+	p.w(`<td class="small">`, t(r.Spans))
+	if r.Reason != "" {
+		p.w("<br><b>", t(r.Reason), "</b>")
 	}
-	b.WriteString("</td></tr>\n")
-	return template.HTML(b.String())
+	p.w("</td></tr>\n")
+	return p.html()
 }
 
 // HTML is the duct's table row.
 func (d ductRow) HTML() template.HTML {
-	var b strings.Builder
-	b.Grow(480)
+	var p page
+	p.b.Grow(480)
 	if d.Bad {
-		b.WriteString(`<tr class="over">`)
+		p.w(`<tr class="over">`)
 	} else {
-		b.WriteString("<tr>")
+		p.w("<tr>")
 	}
-	td(&b, "", d.Span)
-	td(&b, "", d.Pathway)
-	td(&b, "", d.Duct)
-	td(&b, "n", d.DuctID)
-	td(&b, "", d.Cables)
-	b.WriteString(`<td class="margin">`)
-	fillBar(&b, d.BarW, d.Over, d.LimitX)
-	b.WriteString(" " + esc(d.Fill))
+	td(&p, "", d.Span)
+	td(&p, "", d.Pathway)
+	td(&p, "", d.Duct)
+	td(&p, "n", d.DuctID)
+	td(&p, "", d.Cables)
+	p.w(`<td class="margin">`)
+	fillBar(&p, d.BarW, d.Over, d.LimitX)
+	p.w(" ", t(d.Fill))
 	if d.Over {
-		b.WriteString(" <b>over</b>")
+		p.w(" <b>over</b>")
 	}
-	b.WriteString("</td>")
-	td(&b, "n", d.Allowed)
-	b.WriteString(`<td class="n">` + esc(d.Jam))
+	p.w("</td>")
+	td(&p, "n", d.Allowed)
+	p.w(`<td class="n">`, t(d.Jam))
 	if d.JamRisk {
-		b.WriteString(" <b>jam risk</b>")
+		p.w(" <b>jam risk</b>")
 	}
-	b.WriteString("</td></tr>\n")
-	return template.HTML(b.String())
+	p.w("</td></tr>\n")
+	return p.html()
 }
 
 // HTML is the leg's two table rows (figures, then reasons) in their own tbody; span is the
 // number of columns the reason row spans.
 func (l legRow) HTML(span int) template.HTML {
-	var b strings.Builder
-	b.Grow(2048)
+	var p page
+	p.b.Grow(2048)
 	if l.Feasible {
-		b.WriteString(`<tbody class="leg"><tr class="main">` + "\n")
+		p.w(`<tbody class="leg"><tr class="main">`, "\n")
 	} else {
-		b.WriteString(`<tbody class="leg infeasible"><tr class="main">` + "\n")
+		p.w(`<tbody class="leg infeasible"><tr class="main">`, "\n")
 	}
-	b.WriteString("<td><b>" + esc(l.Link) + `</b><br><span class="small">` + esc(l.Leg) + "</span></td>\n")
-	b.WriteString("<td>" + esc(l.From+" → "+l.To))
+	p.w("<td><b>", t(l.Link), `</b><br><span class="small">`, t(l.Leg), "</span></td>\n")
+	p.w("<td>", t(l.From+" → "+l.To))
 	if l.FromName != "" || l.ToName != "" {
-		b.WriteString(`<br><span class="small">` + esc(l.FromName+" → "+l.ToName) + "</span>")
+		p.w(`<br><span class="small">`, t(l.FromName+" → "+l.ToName), "</span>")
 	}
-	b.WriteString("</td>\n")
-	td(&b, "", l.Rate)
-	b.WriteString("\n<td>")
+	p.w("</td>\n")
+	td(&p, "", l.Rate)
+	p.w("\n<td>")
 	if l.HasMedium {
-		b.WriteString(`<svg class="sw" width="22" height="12" aria-hidden="true"><rect x="0.5" y="0.5" width="21" height="11" fill="` +
-			esc(l.Medium.Hex) + `" class="sw-box"/></svg> ` + esc(l.Medium.ID) + `<br><span class="small">` + esc(l.Medium.ColourLabel) + "</span>")
+		p.w(`<svg class="sw" width="22" height="12" aria-hidden="true"><rect x="0.5" y="0.5" width="21" height="11" fill="`,
+			t(l.Medium.Hex), `" class="sw-box"/></svg> `, t(l.Medium.ID), `<br><span class="small">`, t(l.Medium.ColourLabel), "</span>")
 	} else {
-		b.WriteString(`<span class="badge bad">infeasible</span>`)
+		p.w(`<span class="badge bad">infeasible</span>`)
 	}
-	b.WriteString("</td>\n<td>" + esc(l.Application))
+	p.w("</td>\n<td>", t(l.Application))
 	if l.Construction != "" {
-		b.WriteString(`<br><span class="small">` + esc(l.Construction) + "</span>")
+		p.w(`<br><span class="small">`, t(l.Construction), "</span>")
 	}
-	b.WriteString("</td>\n")
-	td(&b, "n", l.Strands)
-	b.WriteString("\n")
-	td(&b, "n", l.Route)
-	td(&b, "n", l.Lat)
-	td(&b, "n", l.Riser)
-	b.WriteString("\n")
+	p.w("</td>\n")
+	td(&p, "n", l.Strands)
+	p.w("\n")
+	td(&p, "n", l.Route)
+	td(&p, "n", l.Lat)
+	td(&p, "n", l.Riser)
+	p.w("\n")
 	for _, c := range l.Losses {
 		if c.Operating {
-			td(&b, "n op", c.Text)
+			td(&p, "n op", c.Text)
 		} else {
-			td(&b, "n", c.Text)
+			td(&p, "n", c.Text)
 		}
 	}
-	b.WriteString("\n")
-	td(&b, "n", l.Limit)
-	b.WriteString("\n" + `<td class="margin">`)
+	p.w("\n")
+	td(&p, "n", l.Limit)
+	p.w("\n", `<td class="margin">`)
 	if l.Bar != nil {
-		b.WriteString(`<svg width="100" height="10" aria-hidden="true"><rect x="0" y="1" width="` + l.Bar.LossW +
-			`" height="8" class="m-loss"/><rect x="` + l.Bar.LossW + `" y="1" width="` + l.Bar.MarginW +
-			`" height="8" class="m-` + l.Bar.Class + `"/></svg>`)
+		p.w(`<svg width="100" height="10" aria-hidden="true"><rect x="0" y="1" width="`, t(l.Bar.LossW),
+			`" height="8" class="m-loss"/><rect x="`, t(l.Bar.LossW), `" y="1" width="`, t(l.Bar.MarginW),
+			`" height="8" class="m-`, t(l.Bar.Class), `"/></svg>`)
 	}
-	b.WriteString(" " + esc(l.Margin) + "</td>\n")
-	td(&b, "n", l.Cost)
-	b.WriteString("\n</tr>\n" + `<tr class="why"><td></td><td colspan="` + strconv.Itoa(span) + `"><span class="reason">`)
+	p.w(" ", t(l.Margin), "</td>\n")
+	td(&p, "n", l.Cost)
+	p.w("\n</tr>\n", `<tr class="why"><td></td><td colspan="`, t(strconv.Itoa(span)), `"><span class="reason">`)
 	if !l.Feasible {
-		b.WriteString("<b>Infeasible:</b> ")
+		p.w("<b>Infeasible:</b> ")
 	}
-	b.WriteString(esc(l.Reason) + "</span>")
+	p.w(t(l.Reason), "</span>")
 	if len(l.Rejected) > 0 {
-		b.WriteString(`<br><span class="small">Not chosen: ` + esc(strings.Join(l.Rejected, "; ")) + ".</span>")
+		p.w(`<br><span class="small">Not chosen: `, t(strings.Join(l.Rejected, "; ")), ".</span>")
 	}
 	if l.Pathways != "" {
-		b.WriteString(`<br><span class="small">Via ` + esc(l.Pathways) + "</span>")
+		p.w(`<br><span class="small">Via `, t(l.Pathways), "</span>")
 	}
-	b.WriteString("</td></tr></tbody>\n")
-	return template.HTML(b.String())
+	p.w("</td></tr></tbody>\n")
+	return p.html()
 }
