@@ -113,7 +113,7 @@ func LoadLimit(paths []string, maxBytes int64) (*Campus, error) {
 	for _, p := range paths {
 		data, err := input.ReadFile(p, max)
 		if err != nil {
-			l.fileErr(p, fmt.Errorf("read: %w", unwrapPath(err)))
+			l.fileErr(p, fmt.Errorf("read: %w", input.Cause(err)))
 			continue
 		}
 		l.parseFile(p, data)
@@ -127,20 +127,12 @@ func LoadFS(fsys fs.FS, names []string) (*Campus, error) {
 	for _, n := range names {
 		data, err := input.ReadFS(fsys, n, input.Cap(0, input.DefaultDataMiB))
 		if err != nil {
-			l.fileErr(n, fmt.Errorf("read: %w", unwrapPath(err)))
+			l.fileErr(n, fmt.Errorf("read: %w", input.Cause(err)))
 			continue
 		}
 		l.parseFile(n, data)
 	}
 	return l.finish()
-}
-
-func unwrapPath(err error) error {
-	var pe *fs.PathError
-	if errors.As(err, &pe) {
-		return pe.Err
-	}
-	return err
 }
 
 type loader struct {

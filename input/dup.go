@@ -95,6 +95,33 @@ func YAMLDuplicates(n *yaml.Node) []Duplicate {
 	return out
 }
 
+// DropYAMLDuplicates removes from every mapping under n the keys given again after their
+// first occurrence, with their values, so that a reader that stops at a repeated key
+// (yaml.v3's Decode) reads the rest. Call it after reporting YAMLDuplicates.
+func DropYAMLDuplicates(n *yaml.Node) {
+	switch n.Kind {
+	case yaml.DocumentNode, yaml.SequenceNode:
+		for _, c := range n.Content {
+			DropYAMLDuplicates(c)
+		}
+	case yaml.MappingNode:
+		seen := make(map[string]bool, len(n.Content)/2)
+		kept := n.Content[:0]
+		for i := 0; i+1 < len(n.Content); i += 2 {
+			k, v := n.Content[i], n.Content[i+1]
+			if k.Kind == yaml.ScalarNode && k.Tag != "!!merge" {
+				if seen[k.Value] {
+					continue
+				}
+				seen[k.Value] = true
+			}
+			DropYAMLDuplicates(v)
+			kept = append(kept, k, v)
+		}
+		n.Content = kept
+	}
+}
+
 // JSONDuplicates returns every member name given twice in an object of the JSON document
 // data, at every level, in document order. Names are compared after unescaping, so "a" and
 // "\u0061" are the same. data must be valid JSON (checked by the caller); on anything else

@@ -78,3 +78,20 @@ func describeDups(ds []Duplicate) []string {
 	}
 	return out
 }
+
+func TestDropYAMLDuplicates(t *testing.T) {
+	t.Parallel()
+	var n yaml.Node
+	if err := yaml.Unmarshal([]byte("a: 1\nb: {x: 1, x: 2}\na: 3\n"), &n); err != nil {
+		t.Fatal(err)
+	}
+	DropYAMLDuplicates(&n)
+	// yaml.v3 refuses to decode a mapping with a repeated key; without them it decodes.
+	var got map[string]any
+	if err := n.Decode(&got); err != nil {
+		t.Fatal(err)
+	}
+	if fmt.Sprint(got) != "map[a:1 b:map[x:1]]" {
+		t.Errorf("got %v, want the first of each key", got)
+	}
+}

@@ -73,4 +73,10 @@ func (r Range) String() string {
 	return fmt.Sprintf("%s from %s to %s", what, num(r.Min), num(r.Max))
 }
 
-func num(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) }
+// num prints a range's end: whole numbers in full (1000000, not 1e+06).
+func num(x float64) string {
+	if x == math.Trunc(x) && math.Abs(x) < 1e15 {
+		return strconv.FormatFloat(x, 'f', -1, 64)
+	}
+	return strconv.FormatFloat(x, 'g', -1, 64)
+}

@@ -79,6 +79,17 @@ func ReadFile(path string, maxBytes int64) ([]byte, error) {
 	return readCapped(path, f, st.Size(), maxBytes)
 }
 
+// Cause is err without the *fs.PathError around it, whose operation and path a message that
+// names the file already would repeat: "not a regular file but a folder; …", "no such file
+// or directory".
+func Cause(err error) error {
+	var pe *fs.PathError
+	if errors.As(err, &pe) {
+		return pe.Err
+	}
+	return err
+}
+
 // ReadFS is ReadFile reading the named file from fsys.
 func ReadFS(fsys fs.FS, name string, maxBytes int64) ([]byte, error) {
 	st, err := fs.Stat(fsys, name)

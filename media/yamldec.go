@@ -1,9 +1,7 @@
 package media
 
 import (
-	"errors"
 	"fmt"
-	"io/fs"
 	"math"
 	"reflect"
 	"regexp"
@@ -128,11 +126,7 @@ var yamlLineRE = regexp.MustCompile(`line (\d+)`)
 func readFile(path string) ([]byte, error) {
 	data, err := input.ReadFile(path, input.Cap(0, input.DefaultTextMiB))
 	if err != nil {
-		var pe *fs.PathError
-		if errors.As(err, &pe) {
-			err = pe.Err
-		}
-		return nil, &FileError{File: path, Err: fmt.Errorf("read: %w", err)}
+		return nil, &FileError{File: path, Err: fmt.Errorf("read: %w", input.Cause(err))}
 	}
 	return data, nil
 }
