@@ -143,7 +143,13 @@ type jsonScan struct {
 	dups  []Duplicate
 }
 
-type span struct{ start, end int } // a string's contents, between its quotes
+// span is a string's contents, between its quotes; plain when its bytes are its text (no
+// escape, only ASCII: encoding/json reads invalid UTF-8 as U+FFFD, so two different invalid
+// names are the same name).
+type span struct {
+	start, end int
+	plain      bool
+}
 
 type step struct {
 	name  span // a member's name, or start -1 for an array element
@@ -187,20 +193,24 @@ func (s *jsonScan) value() {
 // str skips a string starting at its opening quote and returns its contents.
 func (s *jsonScan) str() span {
 	s.i++ // opening quote
-	start := s.i
+	sp := span{start: s.i, plain: true}
 	for s.i < len(s.data) {
-		switch s.data[s.i] {
-		case '\\':
+		switch c := s.data[s.i]; {
+		case c == '\\':
+			sp.plain = false
 			s.i += 2
 			continue
-		case '"':
-			sp := span{start, s.i}
+		case c == '"':
+			sp.end = s.i
 			s.i++
 			return sp
+		case c >= 0x80:
+			sp.plain = false
 		}
 		s.i++
 	}
-	return span{start, min(s.i, len(s.data))}
+	sp.end = min(s.i, len(s.data))
+	return sp
 }
 
 func (s *jsonScan) object() {
@@ -244,7 +254,7 @@ func (s *jsonScan) array() {
 			s.i++
 			return
 		}
-		s.path = append(s.path, step{name: span{-1, -1}, index: n})
+		s.path = append(s.path, step{name: span{start: -1}, index: n})
 		before := s.i
 		s.value()
 		s.path = s.path[:depth]
@@ -295,17 +305,16 @@ func (s *jsonScan) dup(firstOff int, name span) {
 }
 
 func (s *jsonScan) same(a, b span) bool {
-	x, y := s.data[a.start:a.end], s.data[b.start:b.end]
-	if bytes.IndexByte(x, '\\') < 0 && bytes.IndexByte(y, '\\') < 0 {
-		return bytes.Equal(x, y)
+	if a.plain && b.plain {
+		return bytes.Equal(s.data[a.start:a.end], s.data[b.start:b.end])
 	}
 	return s.text(a) == s.text(b)
 }
 
-// text is a name unescaped.
+// text is a name as encoding/json reads it: unescaped, invalid UTF-8 replaced.
 func (s *jsonScan) text(a span) string {
 	raw := s.data[a.start:a.end]
-	if bytes.IndexByte(raw, '\\') < 0 {
+	if a.plain {
 		return string(raw)
 	}
 	var out string

@@ -1,3 +1,7 @@
+// The cases use /dev/zero and a FIFO, which exist on unix systems only.
+
+//go:build unix
+
 package main
 
 import (

@@ -165,6 +165,9 @@ func readRows(path string) (rowsHeader, []Row, error) {
 		if err := dec.Decode(&r); err != nil {
 			return h, nil, fmt.Errorf("%s:%d: %v", path, line, err)
 		}
+		if dups := input.JSONDuplicates(sc.Bytes()); len(dups) > 0 {
+			return h, nil, fmt.Errorf("%s:%d: member %q given twice; a rows file is written by spanwright, not by hand", path, line, dups[0].Where())
+		}
 		if r.Index < 0 || r.Index >= h.Scenarios {
 			return h, nil, fmt.Errorf("%s:%d: scenario index %d outside 0..%d", path, line, r.Index, h.Scenarios-1)
 		}
