@@ -366,7 +366,7 @@ func (d *decoder) scalar(n *yaml.Node, v reflect.Value, at loc) bool {
 		}
 		if at.rng != nil {
 			if err := at.rng.CheckInt(i); err != nil {
-				d.fail(n, at, fmt.Errorf("%w: %v", ErrBadValue, err))
+				d.fail(n, at, fmt.Errorf("%w: %w", ErrBadValue, err))
 				return false
 			}
 		}
@@ -386,7 +386,7 @@ func (d *decoder) scalar(n *yaml.Node, v reflect.Value, at loc) bool {
 		}
 		if at.rng != nil {
 			if err := at.rng.Check(f); err != nil {
-				d.fail(n, at, fmt.Errorf("%w: %v", ErrBadValue, err))
+				d.fail(n, at, fmt.Errorf("%w: %w", ErrBadValue, err))
 				return false
 			}
 		}

@@ -389,7 +389,7 @@ func (p *Plan) validate() []error {
 			err = k.r.Check(k.get(p))
 		}
 		if err != nil {
-			bad(p.lines[k.key], k.key, "%v", err)
+			bad(p.lines[k.key], k.key, "%w", err)
 		}
 	}
 	d := p.Defaults
@@ -410,11 +410,11 @@ func (p *Plan) validate() []error {
 			return l.Line
 		}
 		if err := linkStrandsRange.CheckInt(int64(l.Strands)); err != nil {
-			bad(at("strands"), "links.strands", "%v", err)
+			bad(at("strands"), "links.strands", "%w", err)
 		}
 		if l.Growth != nil {
 			if err := growthRange.Check(*l.Growth); err != nil {
-				bad(at("growth"), "links.growth", "%v", err)
+				bad(at("growth"), "links.growth", "%w", err)
 			}
 		}
 	}

@@ -128,7 +128,7 @@ func TestParsePlanNumbers(t *testing.T) {
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
 			_, err := ParsePlan("plan.yaml", []byte(tc.yaml))
-			if err == nil || !errors.Is(err, ErrPlan) || err.Error() != tc.want {
+			if err == nil || !errors.Is(err, ErrPlan) || !errors.Is(err, input.ErrOutOfRange) || err.Error() != tc.want {
 				t.Errorf("%s: got %v, want %q alone", tc.name, err, tc.want)
 			}
 		})

@@ -3,6 +3,7 @@ package sweep
 import (
 	"crypto/sha256"
 	"encoding/hex"
+	"errors"
 	"fmt"
 	"path/filepath"
 	"reflect"
@@ -158,9 +159,12 @@ func parsePlanYAML(data []byte) (*yaml.Node, error) {
 	if len(doc.Content) == 0 || doc.Content[0].Kind != yaml.MappingNode {
 		return nil, fmt.Errorf("want a mapping of plan keys")
 	}
-	if dups := input.YAMLDuplicates(&doc); len(dups) > 0 {
-		d := dups[0]
-		return nil, fmt.Errorf("line %d: %s: %w", d.Line, d.Where(), d.Err())
+	var errs []error
+	for _, d := range input.YAMLDuplicates(&doc) {
+		errs = append(errs, fmt.Errorf("line %d: %s: %w", d.Line, d.Where(), d.Err()))
+	}
+	if err := errors.Join(errs...); err != nil {
+		return nil, err
 	}
 	return &doc, nil
 }
