@@ -4,6 +4,11 @@ import (
 	"math/rand/v2"
 	"sync"
 	"testing"
+
+	"github.com/paulmach/orb"
+	"github.com/paulmach/orb/geojson"
+
+	"spanwright/geo/input"
 )
 
 var (
@@ -42,5 +47,66 @@ func BenchmarkBuild(b *testing.B) {
 			b.ReportMetric(float64(len(n.Spans)), "spans")
 			b.ReportMetric(float64(len(n.Junctions)), "junctions")
 		})
+	}
+}
+
+// campusGeoJSON writes a campus as one GeoJSON FeatureCollection, with the properties a
+// surveyed campus carries.
+func campusGeoJSON(c *Campus) []byte {
+	fc := geojson.NewFeatureCollection()
+	add := func(g orb.Geometry, props geojson.Properties) {
+		f := geojson.NewFeature(g)
+		f.Properties = props
+		fc.Append(f)
+	}
+	for _, b := range c.Buildings {
+		add(b.Footprint, geojson.Properties{PropKind: KindBuilding, PropID: b.ID, PropName: "Hall " + b.ID, PropRiserM: 12.5})
+	}
+	for _, p := range c.Pathways {
+		var g orb.Geometry = p.Lines
+		if len(p.Lines) == 1 {
+			g = p.Lines[0]
+		}
+		add(g, geojson.Properties{PropKind: KindPathway, PropID: p.ID, PropType: TypeDuct, PropStatus: StatusExisting,
+			PropSpareDucts: 2, PropDuctMM: 100})
+	}
+	for _, s := range c.Structures {
+		add(s.Point, geojson.Properties{PropKind: KindStructure, PropID: s.ID, PropType: StructureHandhole})
+	}
+	for _, e := range c.Entrances {
+		add(e.Point, geojson.Properties{PropKind: KindEntrance, PropBuilding: e.Building})
+	}
+	data, err := fc.MarshalJSON()
+	if err != nil {
+		panic(err)
+	}
+	return data
+}
+
+// BenchmarkParse reads the street-grid campuses from GeoJSON text; grid_70x72 is about
+// 2.5 MB.
+func BenchmarkParse(b *testing.B) {
+	cs := benchCampuses()
+	for _, s := range benchSizes {
+		data := campusGeoJSON(cs[s.name])
+		b.Run(s.name, func(b *testing.B) {
+			b.SetBytes(int64(len(data)))
+			for b.Loop() {
+				if _, err := Parse("bench.geojson", data); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}
+
+// BenchmarkDuplicateKeys is the duplicate-member pass of Parse alone, on the same text.
+func BenchmarkDuplicateKeys(b *testing.B) {
+	data := campusGeoJSON(benchCampuses()["grid_70x72"])
+	b.SetBytes(int64(len(data)))
+	for b.Loop() {
+		if d := input.JSONDuplicates(data); len(d) != 0 {
+			b.Fatal(d)
+		}
 	}
 }

@@ -4,6 +4,8 @@ import (
 	"errors"
 	"fmt"
 	"strings"
+
+	"spanwright/geo/input"
 )
 
 // Sentinels carried in FeatureError.Err so callers can test with errors.Is.
@@ -18,6 +20,9 @@ var (
 	ErrProjected        = errors.New("coordinates look projected")
 	ErrUnknownReference = errors.New("unknown reference")
 	ErrUnreachable      = errors.New("unreachable")
+	// ErrDuplicateKey is a member given twice in one JSON object: a property, or any other
+	// member at any level.
+	ErrDuplicateKey = input.ErrDuplicateKey
 )
 
 // FeatureError is one problem with one input feature. Index is the 0-based position of the

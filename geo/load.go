@@ -8,12 +8,13 @@ import (
 	"fmt"
 	"io/fs"
 	"math"
-	"os"
 	"slices"
 	"strconv"
 	"strings"
 
 	"github.com/paulmach/orb"
+
+	"spanwright/geo/input"
 )
 
 // Structure types, the values of a structure's "type" property.
@@ -42,6 +43,20 @@ const DefaultSpareDucts = 1
 
 // MaxSpareDucts is the largest spare_ducts value accepted.
 const MaxSpareDucts = 1000000
+
+// MaxRiserM is the largest riser_m accepted, in metres: the tallest buildings stand about
+// 830 m high.
+const MaxRiserM = 1000
+
+// MaxDuctMM is the largest duct_mm accepted, in millimetres (a duct of a metre is a tunnel).
+const MaxDuctMM = 1000
+
+// Ranges of the numeric properties.
+var (
+	riserRange = input.Range{Min: 0, Max: MaxRiserM, Unit: "metres"}
+	ductRange  = input.Range{Min: 0, AboveMin: true, Max: MaxDuctMM, Unit: "millimetres"}
+	spareRange = input.Range{Min: 0, Max: MaxSpareDucts, Whole: true}
+)
 
 // EntrancePrefix starts the junction ID of an entrance that has no id of its own: "E-" + the
 // building ID, then "-2", "-3", … for further id-less entrances of the same building, in input
@@ -89,13 +104,18 @@ func Parse(name string, data []byte) (*Campus, error) {
 
 // Load reads and checks the GeoJSON files at paths as one campus: ids must be unique across
 // all files, and an entrance may name a building from another file. Errors are as for Parse,
-// and name the path as given.
-func Load(paths []string) (*Campus, error) {
+// and name the path as given. Each file must be a regular file of at most
+// input.DefaultDataMiB MiB.
+func Load(paths []string) (*Campus, error) { return LoadLimit(paths, 0) }
+
+// LoadLimit is Load with a cap of maxBytes bytes on each file (0: input.DefaultDataMiB MiB).
+func LoadLimit(paths []string, maxBytes int64) (*Campus, error) {
 	l := newLoader()
+	max := input.Cap(maxBytes, input.DefaultDataMiB)
 	for _, p := range paths {
-		data, err := os.ReadFile(p)
+		data, err := input.ReadFile(p, max)
 		if err != nil {
-			l.fileErr(p, fmt.Errorf("read: %w", unwrapPath(err)))
+			l.fileErr(p, fmt.Errorf("read: %w", input.Cause(err)))
 			continue
 		}
 		l.parseFile(p, data)
@@ -107,22 +127,14 @@ func Load(paths []string) (*Campus, error) {
 func LoadFS(fsys fs.FS, names []string) (*Campus, error) {
 	l := newLoader()
 	for _, n := range names {
-		data, err := fs.ReadFile(fsys, n)
+		data, err := input.ReadFS(fsys, n, input.Cap(0, input.DefaultDataMiB))
 		if err != nil {
-			l.fileErr(n, fmt.Errorf("read: %w", unwrapPath(err)))
+			l.fileErr(n, fmt.Errorf("read: %w", input.Cause(err)))
 			continue
 		}
 		l.parseFile(n, data)
 	}
 	return l.finish()
-}
-
-func unwrapPath(err error) error {
-	var pe *fs.PathError
-	if errors.As(err, &pe) {
-		return pe.Err
-	}
-	return err
 }
 
 type loader struct {
@@ -245,6 +257,7 @@ func (l *loader) parseFile(name string, data []byte) {
 		l.fileErr(name, problemf(ErrNotJSON, "not JSON: %s", jsonErrText(data, err)))
 		return
 	}
+	dups := l.duplicates(name, data)
 	var top map[string]json.RawMessage
 	if err := json.Unmarshal(data, &top); err != nil || top == nil {
 		l.fileErr(name, problemf(ErrNotCollection, "not a FeatureCollection: want a JSON object, got %s", describeRaw(data)))
@@ -278,7 +291,37 @@ func (l *loader) parseFile(name string, data []byte) {
 		return
 	}
 	for i, f := range feats {
-		l.parseFeature(Source{File: name, Index: i}, f)
+		l.parseFeature(Source{File: name, Index: i}, f, dups[i])
+	}
+}
+
+// duplicates reports the members given twice outside the features and returns those inside
+// them by feature index, for parseFeature to report with the feature's id.
+func (l *loader) duplicates(name string, data []byte) map[int][]input.Duplicate {
+	var byFeature map[int][]input.Duplicate
+	for _, d := range input.JSONDuplicates(data) {
+		if len(d.Path) >= 2 && d.Path[0].Key == "features" && d.Path[1].Key == "" {
+			if byFeature == nil {
+				byFeature = map[int][]input.Duplicate{}
+			}
+			byFeature[d.Path[1].Index] = append(byFeature[d.Path[1].Index], d)
+			continue
+		}
+		l.fileErr(name, fmt.Errorf("member %q: %w", d.Where(), d.Err()))
+	}
+	return byFeature
+}
+
+// reportDuplicates reports members of the feature given twice: a property by its name,
+// any other member by its path in the feature.
+func (f *feature) reportDuplicates(dups []input.Duplicate) {
+	for _, d := range dups {
+		if len(d.Path) == 3 && d.Path[2].Key == "properties" {
+			f.add(d.Key, d.Err())
+			continue
+		}
+		d.Path = d.Path[2:]
+		f.add("", fmt.Errorf("member %q: %w", d.Where(), d.Err()))
 	}
 }
 
@@ -317,8 +360,9 @@ func (f *feature) add(prop string, err error) {
 	f.l.errs.Add(&FeatureError{File: f.src.File, Index: f.src.Index, FeatureID: f.id, Property: prop, Err: err})
 }
 
-func (l *loader) parseFeature(src Source, raw json.RawMessage) {
+func (l *loader) parseFeature(src Source, raw json.RawMessage, dups []input.Duplicate) {
 	f := &feature{l: l, src: src}
+	defer f.reportDuplicates(dups) // after readID, so that the messages name the feature's id
 	v, err := decodeAny(raw)
 	obj, ok := v.(map[string]any)
 	if err != nil || !ok {
@@ -436,7 +480,7 @@ func (f *feature) building(g orb.Geometry, ok bool) {
 	}
 	name, _ := f.str(PropName)
 	role, _ := f.enum(PropRole, roles, "")
-	riser := f.num(PropRiserM, DefaultRiserM, false)
+	riser := f.num(PropRiserM, DefaultRiserM, riserRange)
 	f.l.c.Buildings = append(f.l.c.Buildings, Building{
 		Source: f.src, ID: f.id, Name: name, Role: role, RiserM: riser, Footprint: fp,
 	})
@@ -533,8 +577,8 @@ func (f *feature) pathway(g orb.Geometry, ok bool) {
 		ID:         f.id,
 		Type:       typ,
 		Status:     status,
-		SpareDucts: f.count(PropSpareDucts, DefaultSpareDucts),
-		DuctMM:     f.num(PropDuctMM, DefaultDuctMM, true),
+		SpareDucts: int(f.num(PropSpareDucts, DefaultSpareDucts, spareRange)),
+		DuctMM:     f.num(PropDuctMM, DefaultDuctMM, ductRange),
 		EMI:        emi,
 		Surface:    surface,
 		Method:     method,
@@ -633,51 +677,27 @@ func (f *feature) flag(key string) bool {
 	return b
 }
 
-// num returns a number property >= 0 (> 0 when positive), or def when absent or bad.
-func (f *feature) num(key string, def float64, positive bool) float64 {
+// num returns a number property in r, or def when absent or bad.
+func (f *feature) num(key string, def float64, r input.Range) float64 {
 	v, ok := f.props[key]
 	if !ok || v == nil {
 		return def
 	}
-	want := "number >= 0"
-	if positive {
-		want = "number > 0"
-	}
 	n, isNum := v.(json.Number)
 	if !isNum {
-		f.add(key, problemf(ErrWrongType, "want %s, got %s", want, describe(v)))
+		f.add(key, problemf(ErrWrongType, "want %s, got %s", r, describe(v)))
 		return def
 	}
 	x, err := strconv.ParseFloat(string(n), 64)
-	if err != nil || math.IsInf(x, 0) || x < 0 || (positive && x == 0) {
-		f.add(key, problemf(ErrBadValue, "want %s, got %s", want, n))
+	if err == nil {
+		err = r.Check(x)
+	}
+	if err != nil {
+		// n as written: 1e999 rather than its overflow, +Inf
+		f.add(key, problemf(ErrBadValue, "want %s, got %s", r, n))
 		return def
 	}
 	return x
-}
-
-// count returns an integer property in [0, MaxSpareDucts], or def when absent or bad.
-func (f *feature) count(key string, def int) int {
-	v, ok := f.props[key]
-	if !ok || v == nil {
-		return def
-	}
-	const want = "integer >= 0"
-	n, isNum := v.(json.Number)
-	if !isNum {
-		f.add(key, problemf(ErrWrongType, "want %s, got %s", want, describe(v)))
-		return def
-	}
-	x, err := strconv.ParseFloat(string(n), 64)
-	switch {
-	case err != nil || math.IsInf(x, 0) || x != math.Trunc(x) || x < 0:
-		f.add(key, problemf(ErrBadValue, "want %s, got %s", want, n))
-		return def
-	case x > MaxSpareDucts:
-		f.add(key, problemf(ErrBadValue, "want %s and at most %d, got %s", want, MaxSpareDucts, n))
-		return def
-	}
-	return int(x)
 }
 
 func contains(list []string, s string) bool {

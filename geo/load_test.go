@@ -10,6 +10,8 @@ import (
 	"testing/fstest"
 
 	"github.com/paulmach/orb"
+
+	"spanwright/geo/input"
 )
 
 const badDir = "../testdata/bad"
@@ -37,7 +39,7 @@ func TestParseBad(t *testing.T) {
 		{"unknown_method.geojson", `unknown_method.geojson: feature #1 "P-1": property "method": want one of "trench", "bore", got string "tunnel-boring"`, ErrBadValue, false},
 		{"unknown_surface.geojson", `unknown_surface.geojson: feature #1 "P-1": property "surface": want one of "turf", "asphalt", "concrete", got string "gravel"`, ErrBadValue, false},
 		{"unknown_role.geojson", `unknown_role.geojson: feature #0 "B-1": property "role": want one of "mc", "ic", got string "hub"`, ErrBadValue, false},
-		{"wrong_property_type.geojson", `wrong_property_type.geojson: feature #0 "B-1": property "riser_m": want number >= 0, got string "15"`, ErrWrongType, false},
+		{"wrong_property_type.geojson", `wrong_property_type.geojson: feature #0 "B-1": property "riser_m": want metres from 0 to 1000, got string "15"`, ErrWrongType, false},
 		{"wrong_geometry.geojson", `wrong_geometry.geojson: feature #0 "B-1": geometry: want Polygon or MultiPolygon for a building, got LineString`, ErrBadGeometry, false},
 		{"missing_geometry.geojson", `missing_geometry.geojson: feature #0 "P-1": geometry: missing (null or absent)`, ErrMissingProperty, false},
 		// JSON has no NaN or Infinity literal; 1e999 is valid JSON that overflows a float64.
@@ -47,13 +49,21 @@ func TestParseBad(t *testing.T) {
 		{"unclosed_ring.geojson", `unclosed_ring.geojson: feature #0 "B-1": geometry: ring 1: not closed: first position [10, 50], last [10, 50.0003]`, ErrBadGeometry, false},
 		{"crs_member.geojson", `crs_member.geojson: has a "crs" member, which RFC 7946 removed: reproject to WGS84 longitude/latitude`, ErrProjected, false},
 		{"projected.geojson", `projected.geojson: feature #0 "B-1": geometry: ring 1: got [500000, 5538000]: coordinates look projected (metres or feet?); reproject to WGS84 longitude/latitude`, ErrProjected, false},
-		{"negative_spare.geojson", `negative_spare.geojson: feature #1 "P-17": property "spare_ducts": want integer >= 0, got -2`, ErrBadValue, false},
-		{"fractional_spare.geojson", `fractional_spare.geojson: feature #1 "P-17": property "spare_ducts": want integer >= 0, got 1.5`, ErrBadValue, false},
-		{"zero_duct.geojson", `zero_duct.geojson: feature #1 "P-1": property "duct_mm": want number > 0, got 0`, ErrBadValue, false},
+		{"negative_spare.geojson", `negative_spare.geojson: feature #1 "P-17": property "spare_ducts": want an integer from 0 to 1000000, got -2`, ErrBadValue, false},
+		{"fractional_spare.geojson", `fractional_spare.geojson: feature #1 "P-17": property "spare_ducts": want an integer from 0 to 1000000, got 1.5`, ErrBadValue, false},
+		{"zero_duct.geojson", `zero_duct.geojson: feature #1 "P-1": property "duct_mm": want millimetres above 0 and at most 1000, got 0`, ErrBadValue, false},
 		{"slash_in_id.geojson", `slash_in_id.geojson: feature #1 "P/1": property "id": want a pathway id without "/"`, ErrBadValue, false},
 		{"unknown_entrance_building.geojson", `unknown_entrance_building.geojson: feature #2 "E-9": property "building": want the id of a building, got "B-9", which no feature has`, ErrUnknownReference, false},
 		{"entrance_without_building.geojson", `entrance_without_building.geojson: feature #1 "E-1": property "building": missing`, ErrMissingProperty, false},
 		{"two_mc.geojson", `two_mc.geojson: feature #1 "B-2": property "role": want at most one "mc" building in the campus, got a second: "B-1"`, ErrBadValue, false},
+		// RFC 8259 §4: names within an object SHOULD be unique; readers keep either value.
+		{"duplicate_property.geojson", `duplicate_property.geojson: feature #0 "B-1": property "riser_m": given twice, at line 2 and line 3; remove one`, ErrDuplicateKey, false},
+		{"duplicate_geometry.geojson", `duplicate_geometry.geojson: feature #0 "B-1": member "geometry": given twice, at line 3 and line 4; remove one`, ErrDuplicateKey, false},
+		{"duplicate_features.geojson", `duplicate_features.geojson: member "features": given twice, at line 2 and line 5; remove one`, ErrDuplicateKey, false},
+		// JSON has no Infinity; 1e999 overflows a float64 (IEEE 754 binary64 max ~1.8e308).
+		{"huge_riser.geojson", `huge_riser.geojson: feature #0 "B-1": property "riser_m": want metres from 0 to 1000, got 1e999`, ErrBadValue, false},
+		// common practice, no published source: no duct is a metre across.
+		{"huge_duct.geojson", `huge_duct.geojson: feature #1 "P-1": property "duct_mm": want millimetres above 0 and at most 1000, got 5000`, ErrBadValue, false},
 		{"no_pathway_near_building.geojson", `no_pathway_near_building.geojson: feature #1 "B-2": no pathway within 30 m of the footprint`, ErrUnreachable, true},
 	}
 	for _, tc := range cases {
@@ -114,7 +124,7 @@ func TestParseSeveralProblemsAtOnce(t *testing.T) {
 	want := []string{
 		`feature #1 (no id): property "id": missing`,
 		`feature #2 "P-1": property "type": want one of`,
-		`feature #2 "P-1": property "spare_ducts": want integer >= 0, got -1`,
+		`feature #2 "P-1": property "spare_ducts": want an integer from 0 to 1000000, got -1`,
 		`feature #3 "B-1": property "id": duplicate id "B-1"`,
 		`feature #4 "S-1": geometry: latitude 91 outside [-90, 90]`,
 		`feature #5 (no id): property "building": want the id of a building, got "B-404"`,
@@ -325,6 +335,30 @@ func TestJoinParts(t *testing.T) {
 		}
 		if !reflect.DeepEqual(got, tc.want) {
 			t.Errorf("%s: got %v, want %v", tc.name, got, tc.want)
+		}
+	}
+}
+
+// TestLoadRefusesUnboundedInput: a device never ends and a file over the cap is not read;
+// both are reported as a problem of the file, named as given.
+func TestLoadRefusesUnboundedInput(t *testing.T) {
+	t.Parallel()
+	ok := filepath.Join(badDir, "zero_duct.geojson")
+	cases := []struct {
+		name, path string
+		max        int64
+		want       string
+		is         error
+	}{
+		// Linux null(4): /dev/zero reads as zero bytes without end.
+		{"device", "/dev/zero", 0, "/dev/zero: read: not a regular file but a character device", input.ErrNotRegular},
+		{"over the cap", ok, 100, ok + ": read: larger than the input limit of 100 bytes (raise it with --max-input-mb)", input.ErrTooLarge},
+	}
+	for _, tc := range cases {
+		_, err := LoadLimit([]string{tc.path}, tc.max)
+		var fe *FeatureError
+		if !errors.As(err, &fe) || !errors.Is(err, tc.is) || !strings.Contains(err.Error(), tc.want) {
+			t.Errorf("%s: got %v, want a FeatureError %q", tc.name, err, tc.want)
 		}
 	}
 }

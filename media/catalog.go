@@ -7,7 +7,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"regexp"
 	"sort"
 	"strconv"
@@ -271,9 +270,9 @@ func mustOnce[T any](f func() (T, error)) func() T {
 
 // LoadCatalog reads and validates a catalog file.
 func LoadCatalog(path string) (*Catalog, error) {
-	data, err := os.ReadFile(path)
+	data, err := readFile(path)
 	if err != nil {
-		return nil, fmt.Errorf("read catalog: %w", err)
+		return nil, err
 	}
 	return ParseCatalog(path, data)
 }
@@ -289,8 +288,8 @@ type catalogFile struct {
 
 type connectionsYAML struct {
 	Pos         pos     `yaml:"-"`
-	MatedPairDB float64 `yaml:"mated_pair_db"`
-	SpliceDB    float64 `yaml:"splice_db"`
+	MatedPairDB float64 `yaml:"mated_pair_db" range:"db"`
+	SpliceDB    float64 `yaml:"splice_db" range:"db"`
 }
 
 type mediumYAML struct {
@@ -299,7 +298,7 @@ type mediumYAML struct {
 	Name          string             `yaml:"name"`
 	Kind          string             `yaml:"kind"`
 	JacketColour  string             `yaml:"jacket_colour"`
-	Attenuation   map[int]float64    `yaml:"attenuation_db_per_km"`
+	Attenuation   map[int]float64    `yaml:"attenuation_db_per_km" range:"db-per-km" keyrange:"nm"`
 	Constructions []constructionYAML `yaml:"constructions" item:"construction"`
 }
 
@@ -311,27 +310,27 @@ type constructionYAML struct {
 	OutdoorRated         bool            `yaml:"outdoor_rated"`
 	PlenumRated          bool            `yaml:"plenum_rated"`
 	JacketColour         string          `yaml:"jacket_colour"`
-	Attenuation          map[int]float64 `yaml:"attenuation_db_per_km"`
-	BendRadiusUnloadedOD float64         `yaml:"bend_radius_unloaded_od"`
-	BendRadiusLoadedOD   float64         `yaml:"bend_radius_loaded_od"`
-	MaxPullN             float64         `yaml:"max_pull_n"`
+	Attenuation          map[int]float64 `yaml:"attenuation_db_per_km" range:"db-per-km" keyrange:"nm"`
+	BendRadiusUnloadedOD float64         `yaml:"bend_radius_unloaded_od" range:"od"`
+	BendRadiusLoadedOD   float64         `yaml:"bend_radius_loaded_od" range:"od"`
+	MaxPullN             float64         `yaml:"max_pull_n" range:"newtons"`
 	Sizes                []sizeYAML      `yaml:"sizes"`
 }
 
 type sizeYAML struct {
 	Pos          pos     `yaml:"-"`
-	Count        int     `yaml:"count"`
-	ODMM         float64 `yaml:"od_mm"`
-	WeightKgPerM float64 `yaml:"weight_kg_per_m"`
+	Count        int     `yaml:"count" range:"count"`
+	ODMM         float64 `yaml:"od_mm" range:"mm"`
+	WeightKgPerM float64 `yaml:"weight_kg_per_m" range:"kg-m"`
 }
 
 type applicationYAML struct {
 	Pos           pos         `yaml:"-"`
 	Name          string      `yaml:"name"`
 	Clause        string      `yaml:"clause"`
-	RateGbps      float64     `yaml:"rate_gbps"`
-	WavelengthsNM []int       `yaml:"wavelengths_nm"`
-	Strands       int         `yaml:"strands"`
+	RateGbps      float64     `yaml:"rate_gbps" range:"gbps"`
+	WavelengthsNM []int       `yaml:"wavelengths_nm" range:"nm"`
+	Strands       int         `yaml:"strands" range:"count"`
 	Transceiver   string      `yaml:"transceiver"`
 	Media         []reachYAML `yaml:"media" item:"on"`
 }
@@ -339,8 +338,8 @@ type applicationYAML struct {
 type reachYAML struct {
 	Pos       pos     `yaml:"-"`
 	Medium    string  `yaml:"medium"`
-	RangeM    float64 `yaml:"range_m"`
-	MaxLossDB float64 `yaml:"max_loss_db"`
+	RangeM    float64 `yaml:"range_m" range:"reach-m"`
+	MaxLossDB float64 `yaml:"max_loss_db" range:"db"`
 }
 
 var idRE = regexp.MustCompile(`^[a-z0-9][a-z0-9-]*$`)

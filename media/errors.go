@@ -5,6 +5,8 @@ import (
 	"fmt"
 	"sort"
 	"strings"
+
+	"spanwright/geo/input"
 )
 
 // Sentinels carried in FileError.Err so callers can test with errors.Is.
@@ -19,6 +21,8 @@ var (
 	ErrSyntax           = errors.New("syntax error")
 	ErrUnknownFact      = errors.New("unknown fact")
 	ErrMissingPrice     = errors.New("missing price")
+	// ErrDuplicateKey is a key given twice in one mapping, at any level.
+	ErrDuplicateKey = input.ErrDuplicateKey
 )
 
 // FileError is one problem in a catalog, rule or price file. Line and Col are 1-based and 0

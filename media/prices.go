@@ -3,7 +3,6 @@ package media
 import (
 	_ "embed"
 	"fmt"
-	"os"
 	"regexp"
 	"sort"
 	"strconv"
@@ -307,14 +306,14 @@ type priceFile struct {
 	Label               string                              `yaml:"label"`
 	Currency            string                              `yaml:"currency"`
 	PricesDate          string                              `yaml:"prices_date"`
-	CablePerM           map[string]map[string]map[int]cents `yaml:"cable_per_m"`
+	CablePerM           map[string]map[string]map[int]cents `yaml:"cable_per_m" keyrange:"count"`
 	TerminationEach     map[string]cents                    `yaml:"termination_each"`
 	SpliceTray          spliceTrayYAML                      `yaml:"splice_tray"`
 	SpliceClosureEach   cents                               `yaml:"splice_closure_each"`
 	TransitionEach      cents                               `yaml:"transition_splice_each"`
-	FibreEnclosures     map[int]cents                       `yaml:"fibre_enclosures"`
-	AdapterPanels       map[int]cents                       `yaml:"adapter_panels"`
-	CopperPatchPanels   map[int]cents                       `yaml:"copper_patch_panels"`
+	FibreEnclosures     map[int]cents                       `yaml:"fibre_enclosures" keyrange:"count"`
+	AdapterPanels       map[int]cents                       `yaml:"adapter_panels" keyrange:"count"`
+	CopperPatchPanels   map[int]cents                       `yaml:"copper_patch_panels" keyrange:"count"`
 	InnerductPerM       cents                               `yaml:"innerduct_per_m"`
 	StructuresEach      map[string]cents                    `yaml:"structures_each"`
 	TrenchPerM          map[string]cents                    `yaml:"trench_per_m"`
@@ -330,22 +329,22 @@ type priceFile struct {
 type spliceTrayYAML struct {
 	Pos     pos   `yaml:"-"`
 	Each    cents `yaml:"each"`
-	Strands int   `yaml:"strands"`
+	Strands int   `yaml:"strands" range:"count"`
 }
 
 type labourYAML struct {
 	Pos                 pos                `yaml:"-"`
 	HourlyRate          cents              `yaml:"hourly_rate"`
-	PullMPerHour        map[string]float64 `yaml:"pull_m_per_hour"`
-	SplicesPerHour      float64            `yaml:"splices_per_hour"`
-	TerminationsPerHour float64            `yaml:"terminations_per_hour"`
+	PullMPerHour        map[string]float64 `yaml:"pull_m_per_hour" range:"per-hour"`
+	SplicesPerHour      float64            `yaml:"splices_per_hour" range:"per-hour"`
+	TerminationsPerHour float64            `yaml:"terminations_per_hour" range:"per-hour"`
 	TestsPerHour        testsYAML          `yaml:"tests_per_hour"`
 }
 
 type testsYAML struct {
 	Pos  pos     `yaml:"-"`
-	Loss float64 `yaml:"loss"`
-	OTDR float64 `yaml:"otdr"`
+	Loss float64 `yaml:"loss" range:"per-hour"`
+	OTDR float64 `yaml:"otdr" range:"per-hour"`
 }
 
 type markupsYAML struct {
@@ -382,9 +381,9 @@ func DefaultPriceBook() *PriceBook {
 
 // LoadPriceBook reads and validates a price book file.
 func LoadPriceBook(path string) (*PriceBook, error) {
-	data, err := os.ReadFile(path)
+	data, err := readFile(path)
 	if err != nil {
-		return nil, fmt.Errorf("read price book: %w", err)
+		return nil, err
 	}
 	return ParsePriceBook(path, data)
 }

@@ -149,9 +149,16 @@ func TestPriceBookBad(t *testing.T) {
 		{"surface", "  turf: 48.00", "  gravel: 48.00", ErrBadValue, `field "trench_per_m.gravel": bad value: want one of turf, asphalt, concrete, got "gravel"`},
 		{"structure", "  pull-box: 850.00", "  vault: 850.00", ErrBadValue, `field "structures_each.vault": bad value: want one of pull-box, handhole, maintenance-hole`},
 		{"pathway", "{duct: 60,", "{conduit: 60,", ErrBadValue, `field "labour.pull_m_per_hour.conduit": bad value: want one of duct, tunnel, aerial, buried, tray`},
-		{"zero rate", "  splices_per_hour: 12", "  splices_per_hour: 0", ErrBadValue, `field "labour.splices_per_hour": bad value: want a number per hour > 0`},
+		{"zero rate", "  splices_per_hour: 12", "  splices_per_hour: 0", ErrBadValue, `field "labour.splices_per_hour": bad value: want a number per hour above 0 and at most 1000000, got 0`},
 		{"tax over 100", "  tax: 7.25", "  tax: 107.25", ErrBadValue, `field "markups_percent.tax": bad value: want a percentage from 0 to 100`},
-		{"strand count", "cmr-riser: {1: 0.95}", "cmr-riser: {0: 0.95}", ErrBadValue, `field "cable_per_m.cat6a.cmr-riser.0": bad value: want a strand count > 0`},
+		{"strand count", "cmr-riser: {1: 0.95}", "cmr-riser: {0: 0.95}", ErrBadValue, `field "cable_per_m.cat6a.cmr-riser.0": bad value: want an integer from 1 to 10000, got 0`},
+		// IEEE 754: NaN fails every comparison, so a "<= 0" check lets it through.
+		{"NaN rate", "  splices_per_hour: 12", "  splices_per_hour: .nan", ErrBadValue, `field "labour.splices_per_hour": bad value: want a number per hour above 0 and at most 1000000, got ".nan"`},
+		{"huge tray", "splice_tray: {each: 38.00, strands: 12}", "splice_tray: {each: 38.00, strands: 9223372036854775807}", ErrBadValue, `field "splice_tray.strands": bad value: want an integer from 1 to 10000, got 9223372036854775807`},
+		{"huge enclosure", "fibre_enclosures: {24: 310.00,", "fibre_enclosures: {2400000: 310.00,", ErrBadValue, `field "fibre_enclosures.2400000": bad value: want an integer from 1 to 10000, got 2400000`},
+		// YAML 1.2.2 §3.2.1.1: the keys of a mapping are unique; yaml.v3 keeps the last.
+		{"duplicate price", "fibre_enclosures: {24: 310.00,", "fibre_enclosures: {24: 1.00, 24: 310.00,", ErrDuplicateKey, `x.yaml:58: field "fibre_enclosures.24": given twice, at line 58 and line 58; remove one`},
+		{"duplicate section", "splice_tray: {each: 38.00, strands: 12}", "splice_tray: {each: 38.00, strands: 12}\nsplice_tray: {each: 1.00, strands: 12}", ErrDuplicateKey, `x.yaml:51: field "splice_tray": given twice, at line 50 and line 51; remove one`},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {

@@ -4,7 +4,6 @@ import (
 	"bytes"
 	_ "embed"
 	"fmt"
-	"os"
 	"unicode/utf8"
 
 	"go.yaml.in/yaml/v3"
@@ -79,9 +78,9 @@ func DefaultRules() *Rules {
 
 // LoadRules reads and validates a rule file.
 func LoadRules(path string) (*Rules, error) {
-	data, err := os.ReadFile(path)
+	data, err := readFile(path)
 	if err != nil {
-		return nil, fmt.Errorf("read rules: %w", err)
+		return nil, err
 	}
 	return ParseRules(path, data)
 }

@@ -10,6 +10,8 @@ import (
 	"strings"
 
 	"go.yaml.in/yaml/v3"
+
+	"spanwright/geo/input"
 )
 
 // The catalog, rule and price files are decoded by one strict walker over yaml.Node instead
@@ -46,17 +48,64 @@ var (
 	unmarshalerType = reflect.TypeOf((*yaml.Unmarshaler)(nil)).Elem()
 )
 
-// loc names what is being decoded: the item (e.g. `medium "om4"`) and the field path in it.
-type loc struct{ item, field string }
+// loc names what is being decoded: the item (e.g. `medium "om4"`) and the field path in it;
+// and the range a number there must be in (rng, for the keys of a map keyRng), from the
+// field's `range` and `keyrange` tags, which hold for the elements of a list and the values
+// of a map too.
+type loc struct {
+	item, field string
+	rng, keyRng *input.Range
+}
 
 func (l loc) child(name string) loc {
 	if l.field == "" {
-		return loc{l.item, name}
+		l.field = name
+	} else {
+		l.field += "." + name
 	}
-	return loc{l.item, l.field + "." + name}
+	return l
 }
 
-func (l loc) index(i int) loc { return loc{l.item, fmt.Sprintf("%s[%d]", l.field, i)} }
+func (l loc) index(i int) loc {
+	l.field = fmt.Sprintf("%s[%d]", l.field, i)
+	return l
+}
+
+// Ranges of the numeric keys of the catalog and the price book, by the name a field's
+// `range` or `keyrange` tag gives; each field must have one (TestEveryNumberHasARange).
+// Amounts of money have their own type, read exactly and capped (parseDecimal2).
+var ranges = map[string]input.Range{
+	// A connection, a splice, an application's budget: a few dB; 100 dB is no optical link.
+	"db": {Min: 0, Max: 100, Unit: "dB"},
+	// Fibre attenuates well under 10 dB/km (TIA-568.3-D Table 4); plastic fibre about 200.
+	"db-per-km": {Min: 0, Max: 1000, Unit: "dB/km"},
+	// Optical fibre transmits from the visible to about 1.7 µm (ITU-T G.Sup39 bands end at 1675 nm).
+	"nm": {Min: 400, Max: 2000, Whole: true, Unit: "nm"},
+	// Strands, ports, lanes: the largest cables hold a few thousand fibres.
+	"count": {Min: 1, Max: 10000, Whole: true},
+	// Bend radius as a multiple of the cable's diameter (TIA-568.3-D: 10× unloaded, 20× loaded).
+	"od":      {Min: 0, AboveMin: true, Max: 100, Unit: "cable diameters"},
+	"newtons": {Min: 0, AboveMin: true, Max: 100000, Unit: "N"},
+	"mm":      {Min: 0, AboveMin: true, Max: 1000, Unit: "mm"},
+	"kg-m":    {Min: 0, AboveMin: true, Max: 100, Unit: "kg/m"},
+	"gbps":    {Min: 0, AboveMin: true, Max: 100000, Unit: "Gbit/s"},
+	// An application's reach: the longest single-mode reaches are tens of kilometres.
+	"reach-m":  {Min: 0, AboveMin: true, Max: 1000000, Unit: "metres"},
+	"per-hour": {Min: 0, AboveMin: true, Max: 1000000, Unit: "a number per hour"},
+}
+
+// tagRange is the range a field's tag names, or nil.
+func tagRange(f reflect.StructField, tag string) *input.Range {
+	name := f.Tag.Get(tag)
+	if name == "" {
+		return nil
+	}
+	r, ok := ranges[name]
+	if !ok {
+		panic("media: unknown range " + strconv.Quote(name) + " on field " + f.Name)
+	}
+	return &r
+}
 
 // decoder walks yaml.Nodes into Go values, collecting problems in errs.
 type decoder struct {
@@ -71,6 +120,16 @@ func (d *decoder) failAt(line, col int, at loc, err error) {
 func (d *decoder) fail(n *yaml.Node, at loc, err error) { d.failAt(n.Line, n.Column, at, err) }
 
 var yamlLineRE = regexp.MustCompile(`line (\d+)`)
+
+// readFile reads an input file of at most input.DefaultTextMiB MiB, and reports a problem
+// reading it as a *FileError naming the file.
+func readFile(path string) ([]byte, error) {
+	data, err := input.ReadFile(path, input.Cap(0, input.DefaultTextMiB))
+	if err != nil {
+		return nil, &FileError{File: path, Err: fmt.Errorf("read: %w", input.Cause(err))}
+	}
+	return data, nil
+}
 
 // parseYAML reads data as one YAML document holding a mapping and decodes it strictly into
 // v, a pointer to a struct.
@@ -88,6 +147,9 @@ func (d *decoder) parseYAML(data []byte, v any) {
 	if len(root.Content) == 0 {
 		d.failAt(0, 0, loc{}, fmt.Errorf("%w: empty file", ErrNotYAML))
 		return
+	}
+	for _, dup := range input.YAMLDuplicates(&root) {
+		d.failAt(dup.Line, 0, loc{field: dup.Where()}, dup.Err())
 	}
 	d.decode(root.Content[0], reflect.ValueOf(v).Elem(), loc{})
 }
@@ -212,9 +274,8 @@ func (d *decoder) structure(n *yaml.Node, v reflect.Value, at loc) {
 	for i := 0; i+1 < len(n.Content); i += 2 {
 		k, val := n.Content[i], n.Content[i+1]
 		kl := at.child(k.Value)
-		if first, dup := p.Keys[k.Value]; dup {
-			d.fail(k, kl, fmt.Errorf("%w: key repeated (first at line %d)", ErrBadValue, first.Line))
-			continue
+		if _, dup := p.Keys[k.Value]; dup {
+			continue // reported by parseYAML
 		}
 		p.Keys[k.Value] = keyPos{Line: k.Line, Col: k.Column, Value: val}
 		fi, ok := fields[k.Value]
@@ -222,6 +283,7 @@ func (d *decoder) structure(n *yaml.Node, v reflect.Value, at loc) {
 			d.fail(k, kl, fmt.Errorf("%w: want one of %s", ErrUnknownField, sortedKeys(fields)))
 			continue
 		}
+		kl.rng, kl.keyRng = tagRange(t.Field(fi), "range"), tagRange(t.Field(fi), "keyrange")
 		fv := v.Field(fi)
 		if label := t.Field(fi).Tag.Get("item"); label != "" && fv.Kind() == reflect.Slice {
 			d.sequence(val, fv, kl, label)
@@ -252,17 +314,18 @@ func (d *decoder) mapping(n *yaml.Node, v reflect.Value, at loc) {
 	if v.IsNil() {
 		v.Set(reflect.MakeMap(v.Type()))
 	}
-	seen := map[string]int{}
+	seen := map[string]bool{}
 	for i := 0; i+1 < len(n.Content); i += 2 {
 		k, val := n.Content[i], n.Content[i+1]
 		kl := at.child(k.Value)
-		if first, dup := seen[k.Value]; dup {
-			d.fail(k, kl, fmt.Errorf("%w: key repeated (first at line %d)", ErrBadValue, first))
-			continue
+		if seen[k.Value] {
+			continue // reported by parseYAML
 		}
-		seen[k.Value] = k.Line
+		seen[k.Value] = true
 		kv := reflect.New(v.Type().Key()).Elem()
-		if !d.scalar(k, kv, kl) {
+		keyAt := kl
+		keyAt.rng = at.keyRng
+		if !d.scalar(k, kv, keyAt) {
 			continue
 		}
 		ev := reflect.New(v.Type().Elem()).Elem()
@@ -271,7 +334,8 @@ func (d *decoder) mapping(n *yaml.Node, v reflect.Value, at loc) {
 	}
 }
 
-// scalar decodes a string, bool, integer or finite float and reports whether it succeeded.
+// scalar decodes a string, bool, integer or finite float (in at's range, when it has one)
+// and reports whether it succeeded.
 func (d *decoder) scalar(n *yaml.Node, v reflect.Value, at loc) bool {
 	n = resolve(n)
 	want := map[reflect.Kind]string{reflect.String: "a string", reflect.Bool: "true or false",
@@ -300,6 +364,12 @@ func (d *decoder) scalar(n *yaml.Node, v reflect.Value, at loc) bool {
 		if err != nil || (n.Tag != "!!int" && n.Tag != "!!str") {
 			return bad()
 		}
+		if at.rng != nil {
+			if err := at.rng.CheckInt(i); err != nil {
+				d.fail(n, at, fmt.Errorf("%w: %w", ErrBadValue, err))
+				return false
+			}
+		}
 		v.SetInt(i)
 	case reflect.Float64:
 		if n.Tag != "!!int" && n.Tag != "!!float" {
@@ -307,8 +377,18 @@ func (d *decoder) scalar(n *yaml.Node, v reflect.Value, at loc) bool {
 		}
 		f, err := strconv.ParseFloat(strings.ReplaceAll(n.Value, "_", ""), 64)
 		if err != nil || math.IsNaN(f) || math.IsInf(f, 0) {
-			d.fail(n, at, fmt.Errorf("%w: want a finite number, got %q", ErrBadValue, n.Value))
+			want := "a finite number"
+			if at.rng != nil {
+				want = at.rng.String()
+			}
+			d.fail(n, at, fmt.Errorf("%w: want %s, got %q", ErrBadValue, want, n.Value))
 			return false
+		}
+		if at.rng != nil {
+			if err := at.rng.Check(f); err != nil {
+				d.fail(n, at, fmt.Errorf("%w: %w", ErrBadValue, err))
+				return false
+			}
 		}
 		v.SetFloat(f)
 	default:

@@ -3,8 +3,6 @@ package route
 import (
 	"errors"
 	"fmt"
-	"math"
-	"os"
 	"path/filepath"
 	"reflect"
 	"sort"
@@ -12,6 +10,8 @@ import (
 	"strings"
 
 	"go.yaml.in/yaml/v3"
+
+	"spanwright/geo/input"
 )
 
 // Redundancy values of a link.
@@ -40,6 +40,13 @@ type Plan struct {
 	Catalog  string `yaml:"catalog"` // optional media catalog file
 	Rules    string `yaml:"rules"`   // optional rule file
 	Prices   string `yaml:"prices"`  // optional price book file
+
+	// MaxInputBytes caps each file the plan reads (campus, catalog, rules, prices), in
+	// bytes; 0 for the defaults (input.DefaultDataMiB MiB for GeoJSON, input.DefaultTextMiB
+	// for YAML). It is not read from the file: the command line sets it.
+	MaxInputBytes int64 `yaml:"-"`
+
+	lines map[string]int // line of each key given in a section or a link, by key path ("design.slack_m", "links[2].growth")
 }
 
 // Defaults apply to every link that does not say otherwise.
@@ -183,13 +190,23 @@ func (e *PlanError) Unwrap() error { return e.Err }
 // ErrPlan marks a plan file problem.
 var ErrPlan = errors.New("invalid plan")
 
-// LoadPlan reads and validates a plan file.
-func LoadPlan(path string) (*Plan, error) {
-	data, err := os.ReadFile(path)
+// LoadPlan reads and validates a plan file, a regular file of at most input.DefaultTextMiB
+// MiB.
+func LoadPlan(path string) (*Plan, error) { return LoadPlanLimit(path, 0) }
+
+// LoadPlanLimit is LoadPlan with a cap of maxBytes bytes on the plan file, kept in
+// Plan.MaxInputBytes for the files the plan names (0: the defaults).
+func LoadPlanLimit(path string, maxBytes int64) (*Plan, error) {
+	data, err := input.ReadFile(path, input.Cap(maxBytes, input.DefaultTextMiB))
 	if err != nil {
-		return nil, &PlanError{File: path, Err: fmt.Errorf("%w: %v", ErrPlan, err)}
+		return nil, &PlanError{File: path, Err: fmt.Errorf("%w: read: %w", ErrPlan, input.Cause(err))}
 	}
-	return ParsePlan(path, data)
+	p, err := ParsePlan(path, data)
+	if err != nil {
+		return nil, err
+	}
+	p.MaxInputBytes = maxBytes
+	return p, nil
 }
 
 // ParsePlan reads a plan from data; name is the plan file's path, used for messages and to
@@ -206,9 +223,14 @@ func ParsePlan(name string, data []byte) (*Plan, error) {
 	p.File = name
 	p.Dir = filepath.Dir(name)
 	var errs []error
+	for _, d := range input.YAMLDuplicates(&root) {
+		errs = append(errs, &PlanError{File: name, Line: d.Line, Key: d.Where(), Err: fmt.Errorf("%w: %w", ErrPlan, d.Err())})
+	}
+	input.DropYAMLDuplicates(&root) // reported: check the rest as if each key were given once
 	if err := decodeStrict(root.Content[0], &p, name); err != nil {
 		errs = append(errs, err...)
 	}
+	p.lines = numberLines(root.Content[0])
 	errs = append(errs, p.validate()...)
 	if len(errs) > 0 {
 		return nil, &ErrorList{Errs: errs}
@@ -359,85 +381,150 @@ func (p *Plan) validate() []error {
 	if len(p.Campus) == 0 {
 		bad(0, "campus", "want at least one campus GeoJSON file")
 	}
+	for _, k := range planNumbers {
+		var err error
+		if k.getInt != nil {
+			err = k.r.CheckInt(int64(k.getInt(p)))
+		} else {
+			err = k.r.Check(k.get(p))
+		}
+		if err != nil {
+			bad(p.lines[k.key], k.key, "%w", err)
+		}
+	}
 	d := p.Defaults
-	if d.Strands <= 0 {
-		bad(0, "defaults.strands", "want an integer > 0, got %d", d.Strands)
-	}
-	if d.Growth < 0 {
-		bad(0, "defaults.growth", "want a fraction >= 0, got %g", d.Growth)
-	}
 	if d.Redundancy != RedundancyNone && d.Redundancy != RedundancyDiverse {
-		bad(0, "defaults.redundancy", "want %q or %q, got %q", RedundancyNone, RedundancyDiverse, d.Redundancy)
+		bad(p.lines["defaults.redundancy"], "defaults.redundancy", "want %q or %q, got %q", RedundancyNone, RedundancyDiverse, d.Redundancy)
 	}
-	for _, l := range p.Links {
+	for i, l := range p.Links {
 		if l.To == "" {
 			bad(l.Line, "links", "a link needs to: (the building served)")
 		}
 		if l.Redundancy != "" && l.Redundancy != RedundancyNone && l.Redundancy != RedundancyDiverse {
 			bad(l.Line, "links.redundancy", "want %q or %q, got %q", RedundancyNone, RedundancyDiverse, l.Redundancy)
 		}
-		if l.Strands < 0 {
-			bad(l.Line, "links.strands", "want an integer >= 0, got %d", l.Strands)
+		at := func(key string) int {
+			if line, ok := p.lines[fmt.Sprintf("links[%d].%s", i, key)]; ok {
+				return line
+			}
+			return l.Line
 		}
-		if l.Growth != nil && *l.Growth < 0 {
-			bad(l.Line, "links.growth", "want a fraction >= 0, got %g", *l.Growth)
+		if err := linkStrandsRange.CheckInt(int64(l.Strands)); err != nil {
+			bad(at("strands"), "links.strands", "%w", err)
+		}
+		if l.Growth != nil {
+			if err := growthRange.Check(*l.Growth); err != nil {
+				bad(at("growth"), "links.growth", "%w", err)
+			}
 		}
 	}
 	g := p.Design
-	if g.LossMarginDB < 0 {
-		bad(0, "design.loss_margin_db", "want dB >= 0, got %g", g.LossMarginDB)
-	}
-	if g.MaxLateralM <= 0 {
-		bad(0, "design.max_lateral_m", "want metres > 0, got %g", g.MaxLateralM)
-	}
-	if g.SnapM <= 0 {
-		bad(0, "design.snap_m", "want metres > 0, got %g", g.SnapM)
-	}
-	if g.SlackM < 0 {
-		bad(0, "design.slack_m", "want metres >= 0, got %g", g.SlackM)
-	}
-	if g.PairLossDB < 0 {
-		bad(0, "design.pair_loss_db", "want dB >= 0, got %g", g.PairLossDB)
-	}
-	if g.SpliceLossDB < 0 {
-		bad(0, "design.splice_loss_db", "want dB >= 0, got %g", g.SpliceLossDB)
-	}
-	if !(g.WastePct >= 0 && g.WastePct <= 100) {
-		bad(0, "design.waste_pct", "want a percentage from 0 to 100, got %g", g.WastePct)
-	}
-	if !(g.SlackLoopEntranceM >= 0) || math.IsInf(g.SlackLoopEntranceM, 0) {
-		bad(0, "design.slack_loop_entrance_m", "want metres >= 0, got %g", g.SlackLoopEntranceM)
-	}
-	if !(g.SlackLoopStructureM >= 0) || math.IsInf(g.SlackLoopStructureM, 0) {
-		bad(0, "design.slack_loop_structure_m", "want metres >= 0, got %g", g.SlackLoopStructureM)
-	}
-	if !(g.ReelM >= MaxCopperChannelM) || math.IsInf(g.ReelM, 0) {
-		bad(0, "design.reel_m", "want metres >= %g (a copper channel, which cannot be spliced), got %g", MaxCopperChannelM, g.ReelM)
-	}
-	if !(g.PullMu >= 0 && g.PullMu <= 2) {
-		bad(0, "design.pull_mu", "want a coefficient of friction from 0 to 2, got %g", g.PullMu)
-	}
-	if !(g.PullBendDeg > 0 && g.PullBendDeg <= 360) {
-		bad(0, "design.pull_bend_deg", "want degrees above 0 and at most 360 (NFPA 70 per raceway), got %g", g.PullBendDeg)
-	}
-	if !(g.PullMaxM >= 0) || math.IsInf(g.PullMaxM, 0) {
-		bad(0, "design.pull_max_m", "want metres >= 0 (0: no limit), got %g", g.PullMaxM)
-	}
-	if !(g.PullMaxSWBPNPerM >= 0) || math.IsInf(g.PullMaxSWBPNPerM, 0) {
-		bad(0, "design.pull_max_swbp_n_per_m", "want N/m >= 0 (0: not checked), got %g", g.PullMaxSWBPNPerM)
-	}
 	if g.Objective != ObjectiveCost && g.Objective != ObjectiveLength {
-		bad(0, "design.objective", "want %q or %q, got %q", ObjectiveCost, ObjectiveLength, g.Objective)
+		bad(p.lines["design.objective"], "design.objective", "want %q or %q, got %q", ObjectiveCost, ObjectiveLength, g.Objective)
 	}
 	switch {
-	case !(g.InnerductODMM >= 0) || math.IsInf(g.InnerductODMM, 0):
-		bad(0, "design.innerduct_od_mm", "want millimetres >= 0 (0: no innerduct), got %g", g.InnerductODMM)
+	case planRange("design.innerduct_od_mm").Check(g.InnerductODMM) != nil || planRange("design.innerduct_id_mm").Check(g.InnerductIDMM) != nil:
+		// reported above
 	case g.InnerductODMM == 0 && g.InnerductIDMM != 0:
-		bad(0, "design.innerduct_id_mm", "want it only with design.innerduct_od_mm, got %g without", g.InnerductIDMM)
+		bad(p.lines["design.innerduct_id_mm"], "design.innerduct_id_mm", "want it only with design.innerduct_od_mm, got %g without", g.InnerductIDMM)
 	case g.InnerductODMM > 0 && !(g.InnerductIDMM > 0 && g.InnerductIDMM < g.InnerductODMM):
-		bad(0, "design.innerduct_id_mm", "want millimetres above 0 and below innerduct_od_mm (%g), got %g", g.InnerductODMM, g.InnerductIDMM)
+		bad(p.lines["design.innerduct_id_mm"], "design.innerduct_id_mm", "want millimetres above 0 and below innerduct_od_mm (%g), got %g", g.InnerductODMM, g.InnerductIDMM)
 	}
 	return errs
+}
+
+// MaxStrands is the most strands a link may ask for: the largest cables hold a few thousand
+// fibres.
+const MaxStrands = 10000
+
+var (
+	growthRange      = input.Range{Min: 0, Max: 10, Unit: "a fraction"}
+	linkStrandsRange = input.Range{Min: 0, Max: MaxStrands, Whole: true, Unit: "strands"}
+)
+
+// planNumber is a numeric key of the plan's defaults or design sections and its range.
+type planNumber struct {
+	key    string
+	r      input.Range
+	get    func(*Plan) float64
+	getInt func(*Plan) int // instead of get for an integer key, so that its message shows it exactly
+}
+
+// planNumbers are the ranges of the numeric keys of the defaults and design sections, in
+// file order; a sweep file's values for them are checked against the same ranges
+// (SettingRange). The ends are generous: they catch NaN, infinities, overflowing integers and
+// slips of unit, not unusual designs.
+var planNumbers = []planNumber{
+	{key: "defaults.strands", r: input.Range{Min: 1, Max: MaxStrands, Whole: true, Unit: "strands"}, getInt: func(p *Plan) int { return p.Defaults.Strands }},
+	{key: "defaults.growth", r: growthRange, get: func(p *Plan) float64 { return p.Defaults.Growth }},
+	{key: "design.loss_margin_db", r: input.Range{Min: 0, Max: 50, Unit: "dB"}, get: func(p *Plan) float64 { return p.Design.LossMarginDB }},
+	{key: "design.max_lateral_m", r: input.Range{Min: 0, AboveMin: true, Max: 1000, Unit: "metres"}, get: func(p *Plan) float64 { return p.Design.MaxLateralM }},
+	{key: "design.snap_m", r: input.Range{Min: 0, AboveMin: true, Max: 100, Unit: "metres"}, get: func(p *Plan) float64 { return p.Design.SnapM }},
+	{key: "design.slack_m", r: input.Range{Min: 0, Max: 1000, Unit: "metres"}, get: func(p *Plan) float64 { return p.Design.SlackM }},
+	{key: "design.pair_loss_db", r: input.Range{Min: 0, Max: 10, Unit: "dB"}, get: func(p *Plan) float64 { return p.Design.PairLossDB }},
+	{key: "design.splice_loss_db", r: input.Range{Min: 0, Max: 10, Unit: "dB"}, get: func(p *Plan) float64 { return p.Design.SpliceLossDB }},
+	{key: "design.waste_pct", r: input.Range{Min: 0, Max: 100, Unit: "a percentage"}, get: func(p *Plan) float64 { return p.Design.WastePct }},
+	{key: "design.slack_loop_entrance_m", r: input.Range{Min: 0, Max: 1000, Unit: "metres"}, get: func(p *Plan) float64 { return p.Design.SlackLoopEntranceM }},
+	{key: "design.slack_loop_structure_m", r: input.Range{Min: 0, Max: 1000, Unit: "metres"}, get: func(p *Plan) float64 { return p.Design.SlackLoopStructureM }},
+	// A copper channel cannot be spliced, so a reel holds one at least.
+	{key: "design.reel_m", r: input.Range{Min: MaxCopperChannelM, Max: 100000, Unit: "metres"}, get: func(p *Plan) float64 { return p.Design.ReelM }},
+	{key: "design.pull_mu", r: input.Range{Min: 0, Max: 2, Unit: "a coefficient of friction"}, get: func(p *Plan) float64 { return p.Design.PullMu }},
+	// NFPA 70 allows 360° of bends per raceway run.
+	{key: "design.pull_bend_deg", r: input.Range{Min: 0, AboveMin: true, Max: 360, Unit: "degrees"}, get: func(p *Plan) float64 { return p.Design.PullBendDeg }},
+	{key: "design.pull_max_m", r: input.Range{Min: 0, Max: 100000, Unit: "metres"}, get: func(p *Plan) float64 { return p.Design.PullMaxM }},
+	{key: "design.pull_max_swbp_n_per_m", r: input.Range{Min: 0, Max: 100000, Unit: "N/m"}, get: func(p *Plan) float64 { return p.Design.PullMaxSWBPNPerM }},
+	{key: "design.innerduct_od_mm", r: input.Range{Min: 0, Max: 1000, Unit: "millimetres"}, get: func(p *Plan) float64 { return p.Design.InnerductODMM }},
+	{key: "design.innerduct_id_mm", r: input.Range{Min: 0, Max: 1000, Unit: "millimetres"}, get: func(p *Plan) float64 { return p.Design.InnerductIDMM }},
+}
+
+func planRange(key string) input.Range {
+	r, ok := SettingRange(key)
+	if !ok {
+		panic("route: no range for plan key " + key)
+	}
+	return r
+}
+
+// SettingRange returns the range of a numeric plan setting by dotted key
+// ("design.slack_m"), and false for a key that is not numeric.
+func SettingRange(key string) (input.Range, bool) {
+	for _, k := range planNumbers {
+		if k.key == key {
+			return k.r, true
+		}
+	}
+	return input.Range{}, false
+}
+
+// numberLines records the line of each key of the defaults and design sections and of each
+// link, by key path, so that a value out of range is reported where it was written.
+func numberLines(root *yaml.Node) map[string]int {
+	lines := map[string]int{}
+	for i := 0; i+1 < len(root.Content); i += 2 {
+		k, v := root.Content[i], resolveAlias(root.Content[i+1])
+		lines[k.Value] = k.Line
+		switch {
+		case v.Kind == yaml.MappingNode:
+			for j := 0; j+1 < len(v.Content); j += 2 {
+				lines[k.Value+"."+v.Content[j].Value] = v.Content[j].Line
+			}
+		case k.Value == "links" && v.Kind == yaml.SequenceNode:
+			for li, item := range v.Content {
+				item = resolveAlias(item)
+				for j := 0; j+1 < len(item.Content); j += 2 {
+					lines[fmt.Sprintf("links[%d].%s", li, item.Content[j].Value)] = item.Content[j].Line
+				}
+			}
+		}
+	}
+	return lines
+}
+
+func resolveAlias(n *yaml.Node) *yaml.Node {
+	for n.Kind == yaml.AliasNode && n.Alias != nil {
+		n = n.Alias
+	}
+	return n
 }
 
 // Path resolves a path named in the plan against the plan file's folder.

@@ -4,6 +4,8 @@ import (
 	"errors"
 	"strings"
 	"testing"
+
+	"spanwright/geo/input"
 )
 
 func TestParsePlan(t *testing.T) {
@@ -66,7 +68,7 @@ func TestParsePlanErrors(t *testing.T) {
 			[]string{"line 3: field snap not found in type route.Design; line 4: cannot unmarshal !!str `lots` into float64; line 6: field slak_m not found"}},
 		{"innerduct inside without outside", "campus: [c]\ndesign: {innerduct_id_mm: 27}\n", []string{"design.innerduct_id_mm", "only with design.innerduct_od_mm"}},
 		{"innerduct inside not below outside", "campus: [c]\ndesign: {innerduct_od_mm: 32, innerduct_id_mm: 32}\n", []string{"design.innerduct_id_mm", "below innerduct_od_mm (32), got 32"}},
-		{"negative sidewall limit", "campus: [c]\ndesign: {pull_max_swbp_n_per_m: -1}\n", []string{"design.pull_max_swbp_n_per_m", "want N/m >= 0"}},
+		{"negative sidewall limit", "campus: [c]\ndesign: {pull_max_swbp_n_per_m: -1}\n", []string{"design.pull_max_swbp_n_per_m", "design.pull_max_swbp_n_per_m: invalid plan: want N/m from 0 to 100000, got -1"}},
 		{"several problems at once", "campus: [c]\ndefaults: {strands: 0, growth: -1}\ndesign: {snap_m: 0}\n",
 			[]string{"defaults.strands", "defaults.growth", "design.snap_m"}},
 	}
@@ -102,5 +104,53 @@ func TestParseCents(t *testing.T) {
 		if (err == nil) != tc.ok || got != tc.want {
 			t.Errorf("ParseCents(%q): got %d, %v; want %d, ok %v", tc.in, got, err, tc.want, tc.ok)
 		}
+	}
+}
+
+// TestParsePlanNumbers: every numeric key is finite, in its range and whole where it counts
+// something, and a problem names the file, the key's line and the key.
+func TestParsePlanNumbers(t *testing.T) {
+	t.Parallel()
+	cases := []struct{ name, yaml, want string }{
+		// YAML 1.2.2 §10.2.1.4: .nan and .inf are floats; IEEE 754: NaN fails every comparison.
+		{"growth NaN", "campus: [c]\ndefaults:\n  growth: .nan\n", "plan.yaml:3: defaults.growth: invalid plan: want a fraction from 0 to 10, got NaN"},
+		{"growth huge", "campus: [c]\ndefaults: {growth: 1e308}\n", "plan.yaml:2: defaults.growth: invalid plan: want a fraction from 0 to 10, got 1e+308"},
+		// Go spec: int is 64 bits here, so strands times growth overflows.
+		{"strands overflow", "campus: [c]\ndefaults:\n  rate: 10G\n  strands: 9223372036854775807\n", "plan.yaml:4: defaults.strands: invalid plan: want a whole number of strands from 1 to 10000, got 9223372036854775807"},
+		{"link strands overflow", "campus: [c]\nlinks:\n  - to: A\n    strands: 9223372036854775807\n", "plan.yaml:4: links.strands: invalid plan: want a whole number of strands from 0 to 10000, got 9223372036854775807"},
+		{"link growth NaN", "campus: [c]\nlinks:\n  - {to: A, growth: .nan}\n", "plan.yaml:3: links.growth: invalid plan: want a fraction from 0 to 10, got NaN"},
+		{"slack NaN", "campus: [c]\ndesign:\n  snap_m: 1\n  slack_m: .nan\n", "plan.yaml:4: design.slack_m: invalid plan: want metres from 0 to 1000, got NaN"},
+		{"slack infinite", "campus: [c]\ndesign: {slack_m: .inf}\n", "plan.yaml:2: design.slack_m: invalid plan: want metres from 0 to 1000, got +Inf"},
+		{"lateral infinite", "campus: [c]\ndesign: {max_lateral_m: .inf}\n", "plan.yaml:2: design.max_lateral_m: invalid plan: want metres above 0 and at most 1000, got +Inf"},
+		{"margin negative infinite", "campus: [c]\ndesign: {loss_margin_db: -.inf}\n", "plan.yaml:2: design.loss_margin_db: invalid plan: want dB from 0 to 50, got -Inf"},
+		{"innerduct NaN", "campus: [c]\ndesign: {innerduct_od_mm: .nan}\n", "plan.yaml:2: design.innerduct_od_mm: invalid plan: want millimetres from 0 to 1000, got NaN"},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			_, err := ParsePlan("plan.yaml", []byte(tc.yaml))
+			if err == nil || !errors.Is(err, ErrPlan) || !errors.Is(err, input.ErrOutOfRange) || err.Error() != tc.want {
+				t.Errorf("%s: got %v, want %q alone", tc.name, err, tc.want)
+			}
+		})
+	}
+}
+
+// TestParsePlanDuplicateKeys: a key given twice at any level is refused, naming both lines;
+// yaml.v3 would keep the last value of a top-level key without a word.
+func TestParsePlanDuplicateKeys(t *testing.T) {
+	t.Parallel()
+	cases := []struct{ name, yaml, want string }{
+		// YAML 1.2.2 §3.2.1.1: the keys of a mapping are unique.
+		{"hub twice", "campus: [c]\nhub: ADM\nname: x\nhub: LIB\n", "plan.yaml:4: hub: invalid plan: given twice, at line 2 and line 4; remove one"},
+		{"in design", "campus: [c]\ndesign:\n  slack_m: 5\n  slack_m: 6\n", "plan.yaml:4: design.slack_m: invalid plan: given twice, at line 3 and line 4; remove one"},
+		{"in a link", "campus: [c]\nlinks:\n  - to: A\n    strands: 12\n    to: B\n", "plan.yaml:5: links[0].to: invalid plan: given twice, at line 3 and line 5; remove one"},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			_, err := ParsePlan("plan.yaml", []byte(tc.yaml))
+			if err == nil || !errors.Is(err, input.ErrDuplicateKey) || err.Error() != tc.want {
+				t.Errorf("%s: got %v, want %q alone", tc.name, err, tc.want)
+			}
+		})
 	}
 }

@@ -59,10 +59,12 @@ func (s *Site) solve(prob *optimize.Problem, opt optimize.Settings) (*optimize.S
 	return c.back(sol), nil
 }
 
-// SiteOptions are the noding options a site is built with.
+// SiteOptions are the noding options a site is built with, and the cap on its files.
 type SiteOptions struct {
 	SnapM       float64
 	MaxLateralM float64
+	// MaxInputBytes caps each campus file, in bytes; 0 for input.DefaultDataMiB MiB.
+	MaxInputBytes int64
 }
 
 // LoadSite reads the campus files and builds the network. fsys, when not nil, is read
@@ -73,7 +75,7 @@ func LoadSite(fsys fs.FS, files []string, opt SiteOptions) (*Site, error) {
 	if fsys != nil {
 		c, err = geo.LoadFS(fsys, files)
 	} else {
-		c, err = geo.Load(files)
+		c, err = geo.LoadLimit(files, opt.MaxInputBytes)
 	}
 	if err != nil {
 		return nil, err

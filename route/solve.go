@@ -9,6 +9,7 @@ import (
 	"strings"
 
 	"spanwright/geo"
+	"spanwright/geo/input"
 	"spanwright/media"
 	"spanwright/route/optimize"
 )
@@ -133,26 +134,27 @@ func Engine(p *Plan) (*media.Engine, error) {
 	var rules *media.Rules
 	var prices *media.PriceBook
 	var errs []error
-	if p.Catalog != "" {
-		c, err := media.LoadCatalog(p.Path(p.Catalog))
-		cat = c
+	// read reads a file the plan names under the plan's cap, and parses it.
+	read := func(name string, parse func(string, []byte) error) {
+		path := p.Path(name)
+		data, err := input.ReadFile(path, input.Cap(p.MaxInputBytes, input.DefaultTextMiB))
+		if err == nil {
+			err = parse(path, data)
+		} else {
+			err = &media.FileError{File: path, Err: fmt.Errorf("read: %w", input.Cause(err))}
+		}
 		if err != nil {
 			errs = append(errs, err)
 		}
+	}
+	if p.Catalog != "" {
+		read(p.Catalog, func(path string, data []byte) (err error) { cat, err = media.ParseCatalog(path, data); return err })
 	}
 	if p.Rules != "" {
-		r, err := media.LoadRules(p.Path(p.Rules))
-		rules = r
-		if err != nil {
-			errs = append(errs, err)
-		}
+		read(p.Rules, func(path string, data []byte) (err error) { rules, err = media.ParseRules(path, data); return err })
 	}
 	if p.Prices != "" {
-		b, err := media.LoadPriceBook(p.Path(p.Prices))
-		prices = b
-		if err != nil {
-			errs = append(errs, err)
-		}
+		read(p.Prices, func(path string, data []byte) (err error) { prices, err = media.ParsePriceBook(path, data); return err })
 	}
 	if len(errs) > 0 {
 		return nil, &ErrorList{Errs: errs}

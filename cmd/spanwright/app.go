@@ -10,6 +10,7 @@ import (
 	"github.com/urfave/cli/v2"
 
 	"spanwright/geo"
+	"spanwright/geo/input"
 	"spanwright/media"
 	"spanwright/route"
 )
@@ -86,6 +87,28 @@ var unitsFlag = &cli.StringFlag{
 	Name:  "units",
 	Value: route.UnitsMetric,
 	Usage: "units for CSV and printed lengths: metric or imperial (JSON and GeoJSON stay metric)",
+}
+
+// maxInputFlag sets the size cap of every input file; check, plan and sweep take it.
+var maxInputFlag = &cli.Int64Flag{
+	Name: input.LimitFlag,
+	Usage: fmt.Sprintf("refuse input files larger than this, in MiB (default: %d for campus GeoJSON, %d for plan, sweep, catalog, rule and price files)",
+		input.DefaultDataMiB, input.DefaultTextMiB),
+}
+
+// maxMiB is the largest value --max-input-mb takes: a tebibyte.
+const maxMiB = 1 << 20
+
+// maxInputBytes reads --max-input-mb as bytes, 0 when it is not given.
+func maxInputBytes(c *cli.Context) (int64, error) {
+	if !c.IsSet(input.LimitFlag) {
+		return 0, nil
+	}
+	mb := c.Int64(input.LimitFlag)
+	if mb < 1 || mb > maxMiB {
+		return 0, usageError{fmt.Errorf("--%s: want MiB from 1 to %d, got %d", input.LimitFlag, maxMiB, mb)}
+	}
+	return mb * input.MiB, nil
 }
 
 func writeOptions(c *cli.Context) (route.WriteOptions, error) {

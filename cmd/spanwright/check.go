@@ -16,7 +16,7 @@ func checkCommand() *cli.Command {
 		Name:      "check",
 		Usage:     "validate a plan or campus files and summarise the pathway network",
 		ArgsUsage: "PLAN.yaml | CAMPUS.geojson...",
-		Flags:     []cli.Flag{unitsFlag},
+		Flags:     []cli.Flag{unitsFlag, maxInputFlag},
 		Action: func(c *cli.Context) error {
 			opt, err := writeOptions(c)
 			if err != nil {
@@ -25,24 +25,29 @@ func checkCommand() *cli.Command {
 			if c.NArg() == 0 {
 				return usageError{fmt.Errorf("check: name a plan file or one or more campus GeoJSON files")}
 			}
-			return runCheck(c.Context, c.Args().Slice(), opt, c.App.Writer)
+			maxBytes, err := maxInputBytes(c)
+			if err != nil {
+				return err
+			}
+			return runCheck(c.Context, c.Args().Slice(), maxBytes, opt, c.App.Writer)
 		},
 	}
 }
 
-func runCheck(ctx context.Context, args []string, opt route.WriteOptions, w io.Writer) error {
+func runCheck(ctx context.Context, args []string, maxBytes int64, opt route.WriteOptions, w io.Writer) error {
 	var site *route.Site
 	var err error
 	hub := ""
 	if len(args) == 1 && (strings.HasSuffix(args[0], ".yaml") || strings.HasSuffix(args[0], ".yml")) {
-		p, perr := route.LoadPlan(args[0])
+		p, perr := route.LoadPlanLimit(args[0], maxBytes)
 		if perr != nil {
 			return perr
 		}
 		site, err = route.LoadSite(nil, campusPaths(p), siteOptions(p))
 		hub = p.Hub
 	} else {
-		site, err = route.LoadSite(nil, args, route.SiteOptions{SnapM: route.PlanDefaults.Design.SnapM, MaxLateralM: route.PlanDefaults.Design.MaxLateralM})
+		site, err = route.LoadSite(nil, args, route.SiteOptions{SnapM: route.PlanDefaults.Design.SnapM,
+			MaxLateralM: route.PlanDefaults.Design.MaxLateralM, MaxInputBytes: maxBytes})
 	}
 	if err != nil {
 		return err
@@ -69,5 +74,5 @@ func campusPaths(p *route.Plan) []string {
 }
 
 func siteOptions(p *route.Plan) route.SiteOptions {
-	return route.SiteOptions{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM}
+	return route.SiteOptions{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM, MaxInputBytes: p.MaxInputBytes}
 }

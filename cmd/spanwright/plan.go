@@ -24,6 +24,7 @@ func planCommand() *cli.Command {
 			&cli.PathFlag{Name: "catalog", Usage: "media catalog YAML, instead of the plan's catalog: or the embedded one", TakesFile: true},
 			&cli.PathFlag{Name: "rules", Usage: "media rule YAML, instead of the plan's rules: or the embedded one", TakesFile: true},
 			&cli.PathFlag{Name: "prices", Usage: "price book YAML, instead of the plan's prices: or the embedded demo book", TakesFile: true},
+			maxInputFlag,
 		},
 		Action: func(c *cli.Context) error {
 			opt, err := writeOptions(c)
@@ -33,7 +34,11 @@ func planCommand() *cli.Command {
 			if c.NArg() != 1 {
 				return usageError{fmt.Errorf("plan: name exactly one plan file")}
 			}
-			p, err := route.LoadPlan(c.Args().First())
+			maxBytes, err := maxInputBytes(c)
+			if err != nil {
+				return err
+			}
+			p, err := route.LoadPlanLimit(c.Args().First(), maxBytes)
 			if err != nil {
 				return err
 			}

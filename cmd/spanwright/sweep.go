@@ -45,6 +45,7 @@ func sweepCommand() *cli.Command {
 			&cli.BoolFlag{Name: "quiet", Usage: "print no progress on stderr"},
 			&cli.BoolFlag{Name: "full", Usage: "also write bom.xlsx and report.html in every scenario folder (slower)"},
 			unitsFlag,
+			maxInputFlag,
 		},
 		Action: func(c *cli.Context) error {
 			opt, err := sweepOpts(c)
@@ -68,6 +69,8 @@ type sweepOptions struct {
 	full   bool
 	shard  sweep.Shard
 	write  route.WriteOptions
+	// maxBytes caps every input file, in bytes; 0 for the defaults
+	maxBytes int64
 }
 
 func sweepOpts(c *cli.Context) (sweepOptions, error) {
@@ -84,6 +87,9 @@ func sweepOpts(c *cli.Context) (sweepOptions, error) {
 	o := sweepOptions{file: c.Args().First(), out: c.Path("out"), jobs: c.Int("jobs"),
 		resume: c.Bool("resume"), quiet: c.Bool("quiet"), full: c.Bool("full"), write: w}
 	o.write.SkipWorkbook = !o.full
+	if o.maxBytes, err = maxInputBytes(c); err != nil {
+		return sweepOptions{}, err
+	}
 	if s := c.String("shard"); s != "" {
 		if o.shard, err = sweep.ParseShard(s); err != nil {
 			return sweepOptions{}, usageError{fmt.Errorf("--shard: %w", err)}
@@ -93,7 +99,7 @@ func sweepOpts(c *cli.Context) (sweepOptions, error) {
 }
 
 func runSweep(ctx context.Context, o sweepOptions, stdout, stderr io.Writer) error {
-	f, err := sweep.Load(o.file)
+	f, err := sweep.LoadLimit(o.file, o.maxBytes)
 	if err != nil {
 		return invalid{err}
 	}

@@ -3,8 +3,8 @@ package sweep
 import (
 	"crypto/sha256"
 	"encoding/hex"
+	"errors"
 	"fmt"
-	"os"
 	"path/filepath"
 	"reflect"
 	"regexp"
@@ -13,6 +13,7 @@ import (
 
 	"go.yaml.in/yaml/v3"
 
+	"spanwright/geo/input"
 	"spanwright/route"
 )
 
@@ -23,6 +24,9 @@ type File struct {
 	Base  string // the base plan's path, resolved against Dir
 	Axes  []Axis // the cartesian product's axes, in file order
 	Cases []Case // named cases, in file order
+	// MaxInputBytes caps every file the sweep reads, in bytes; 0 for the defaults
+	// (input.DefaultTextMiB MiB for YAML, input.DefaultDataMiB for campus files).
+	MaxInputBytes int64
 
 	baseData  []byte
 	baseDoc   *yaml.Node // baseData parsed; each scenario edits a copy
@@ -52,20 +56,27 @@ type Scenario struct {
 }
 
 // Load reads and checks a sweep file and its base plan's YAML (the plan itself is validated
-// per scenario, after the overrides).
-func Load(path string) (*File, error) {
-	data, err := os.ReadFile(path)
+// per scenario, after the overrides). Both must be regular files of at most
+// input.DefaultTextMiB MiB.
+func Load(path string) (*File, error) { return LoadLimit(path, 0) }
+
+// LoadLimit is Load with a cap of maxBytes bytes on every file the sweep reads (0: the
+// defaults), kept in File.MaxInputBytes.
+func LoadLimit(path string, maxBytes int64) (*File, error) {
+	data, err := input.ReadFile(path, input.Cap(maxBytes, input.DefaultTextMiB))
 	if err != nil {
-		return nil, &Error{File: path, Err: err}
+		return nil, &Error{File: path, Err: fmt.Errorf("read: %w", input.Cause(err))}
 	}
-	return Parse(path, data)
+	return parse(path, data, maxBytes)
 }
 
 // Parse reads a sweep file from data; name is its path, for messages and to resolve the
 // base plan and file-valued overrides. It returns every problem at once, as an *ErrorList
 // of *Error.
-func Parse(name string, data []byte) (*File, error) {
-	f := &File{Path: name, Dir: filepath.Dir(name)}
+func Parse(name string, data []byte) (*File, error) { return parse(name, data, 0) }
+
+func parse(name string, data []byte, maxBytes int64) (*File, error) {
+	f := &File{Path: name, Dir: filepath.Dir(name), MaxInputBytes: maxBytes}
 	var errs ErrorList
 	bad := func(line int, where, key string, err error) {
 		errs.Errs = append(errs.Errs, &Error{File: name, Line: line, Case: where, Key: key, Err: err})
@@ -79,6 +90,10 @@ func Parse(name string, data []byte) (*File, error) {
 		bad(0, "", "", fmt.Errorf("want a mapping with base, vary and cases"))
 		return nil, &errs
 	}
+	for _, d := range input.YAMLDuplicates(&doc) {
+		bad(d.Line, "", d.Where(), d.Err())
+	}
+	input.DropYAMLDuplicates(&doc) // reported: check the rest as if each key were given once
 	root := doc.Content[0]
 	for i := 0; i+1 < len(root.Content); i += 2 {
 		k, v := root.Content[i], root.Content[i+1]
@@ -107,7 +122,7 @@ func Parse(name string, data []byte) (*File, error) {
 		bad(0, "", "", fmt.Errorf("nothing to sweep: give vary, cases or both"))
 	}
 	if f.Base != "" {
-		if data, err := os.ReadFile(f.Base); err != nil {
+		if data, err := input.ReadFile(f.Base, input.Cap(maxBytes, input.DefaultTextMiB)); err != nil {
 			bad(lineOf(root, "base"), "", "base", err)
 		} else if doc, err := parsePlanYAML(data); err != nil {
 			bad(lineOf(root, "base"), "", "base", fmt.Errorf("%s: %w", f.Base, err))
@@ -143,6 +158,13 @@ func parsePlanYAML(data []byte) (*yaml.Node, error) {
 	}
 	if len(doc.Content) == 0 || doc.Content[0].Kind != yaml.MappingNode {
 		return nil, fmt.Errorf("want a mapping of plan keys")
+	}
+	var errs []error
+	for _, d := range input.YAMLDuplicates(&doc) {
+		errs = append(errs, fmt.Errorf("line %d: %s: %w", d.Line, d.Where(), d.Err()))
+	}
+	if err := errors.Join(errs...); err != nil {
+		return nil, err
 	}
 	return &doc, nil
 }

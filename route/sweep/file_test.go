@@ -4,6 +4,7 @@ import (
 	"crypto/sha256"
 	"encoding/hex"
 	"errors"
+	"fmt"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -12,6 +13,7 @@ import (
 
 	"go.yaml.in/yaml/v3"
 
+	"spanwright/geo/input"
 	"spanwright/route"
 )
 
@@ -186,6 +188,17 @@ func TestParseErrors(t *testing.T) {
 		{"campus not a name", "base: ../demo/plan.yaml\ncases: [{name: c, campus: [1]}]", `case "c": campus: wrong type: want a file name or a list of file names`},
 		{"defaults alone", "base: ../demo/plan.yaml\ncases: [{name: c, defaults: {rate: 10G}}]", `case "c": defaults: unknown key`},
 		{"mapping for text", "base: ../demo/plan.yaml\nvary: {hub: [{a: 1}]}", "vary: hub: wrong type: want text, got a mapping"},
+		// YAML 1.2.2 §3.2.1.1: the keys of a mapping are unique; yaml.v3 keeps the last.
+		{"base twice", "base: ../demo/plan.yaml\nvary: {hub: [ADM]}\nbase: other.yaml", "x.yaml:3: base: given twice, at line 1 and line 3; remove one"},
+		{"axis twice", "base: ../demo/plan.yaml\nvary:\n  hub: [ADM]\n  hub: [LIB]", "x.yaml:4: vary.hub: given twice, at line 3 and line 4; remove one"},
+		{"case key twice", "base: ../demo/plan.yaml\ncases:\n  - name: c\n    hub: ADM\n    hub: LIB", "x.yaml:5: cases[0].hub: given twice, at line 4 and line 5; remove one"},
+		{"base plan key twice", "base: dup-base.yaml\nvary: {hub: [ADM]}", "dup-base.yaml: line 3: hub: given twice, at line 2 and line 3; remove one"},
+		// IEEE 754: NaN fails every comparison; each value is checked against the plan's range.
+		{"NaN value", "base: ../demo/plan.yaml\nvary: {design.slack_m: [1, .nan]}", "x.yaml:2: vary: design.slack_m: want metres from 0 to 1000, got NaN"},
+		{"infinite value", "base: ../demo/plan.yaml\ncases: [{name: c, design.max_lateral_m: .inf}]", `x.yaml:2: case "c": design.max_lateral_m: want metres above 0 and at most 1000, got +Inf`},
+		{"strands overflow", "base: ../demo/plan.yaml\nvary: {defaults.strands: [9223372036854775807]}", "defaults.strands: want a whole number of strands from 1 to 10000, got 9223372036854775807"},
+		// Linux null(4): /dev/zero never ends.
+		{"base a device", "base: /dev/zero\nvary: {hub: [ADM]}", "base: read /dev/zero: not a regular file but a character device"},
 	}
 	for _, tc := range inline {
 		t.Run(tc.name, func(t *testing.T) {
@@ -194,6 +207,27 @@ func TestParseErrors(t *testing.T) {
 				t.Errorf("%s: got %v, want an invalid sweep error containing %q", tc.name, err, tc.want)
 			}
 		})
+	}
+}
+
+// TestLoadRefusesUnboundedInput: the sweep file is a regular file under the cap.
+func TestLoadRefusesUnboundedInput(t *testing.T) {
+	t.Parallel()
+	small := filepath.Join(fixtures, "small.yaml")
+	for _, tc := range []struct {
+		path string
+		max  int64
+		is   error
+		want string
+	}{
+		// Linux null(4): /dev/zero never ends.
+		{"/dev/zero", 0, input.ErrNotRegular, "/dev/zero: read: not a regular file but a character device"},
+		{small, 10, input.ErrTooLarge, small + ": read: larger than the input limit of 10 bytes (raise it with --max-input-mb)"},
+	} {
+		_, err := LoadLimit(tc.path, tc.max)
+		if !errors.Is(err, tc.is) || !errors.Is(err, ErrInvalid) || !strings.Contains(fmt.Sprint(err), tc.want) {
+			t.Errorf("%s: got %v, want %q", tc.path, err, tc.want)
+		}
 	}
 }
 

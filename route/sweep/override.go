@@ -131,6 +131,18 @@ func parseOverride(key string, v *yaml.Node) (Override, error) {
 	if err := v.Decode(ptr.Interface()); err != nil {
 		return Override{}, fmt.Errorf("%w: want %s, got %q", ErrWrongType, describe(st.typ), v.Value)
 	}
+	if r, ok := route.SettingRange(key); ok {
+		var err error
+		switch x := ptr.Elem(); x.Kind() {
+		case reflect.Int, reflect.Int64:
+			err = r.CheckInt(x.Int())
+		case reflect.Float64:
+			err = r.Check(x.Float())
+		}
+		if err != nil {
+			return Override{}, err
+		}
+	}
 	o.Value = v.Value
 	if st.typ.Kind() == reflect.Bool {
 		o.Value = fmt.Sprint(ptr.Elem().Interface())

@@ -12,6 +12,7 @@ import (
 	"sort"
 	"strings"
 
+	"spanwright/geo/input"
 	"spanwright/route"
 )
 
@@ -133,15 +134,20 @@ func encodeRows(h rowsHeader, rows []Row) ([]byte, error) {
 	return b.Bytes(), nil
 }
 
+// MaxRowsMiB caps a rows file, in MiB: a sweep of MaxScenarios scenarios writes rows of a
+// few hundred bytes each, well within it. Rows files are spanwright's own output, so the cap
+// only guards against a wrong path (a huge or sparse file); named pipes and devices are
+// refused whatever their size.
+const MaxRowsMiB = 4096
+
 // readRows reads one rows file.
 func readRows(path string) (rowsHeader, []Row, error) {
 	var h rowsHeader
-	f, err := os.Open(path)
+	data, err := input.ReadFile(path, MaxRowsMiB*input.MiB)
 	if err != nil {
 		return h, nil, err
 	}
-	defer f.Close()
-	sc := bufio.NewScanner(f)
+	sc := bufio.NewScanner(bytes.NewReader(data))
 	sc.Buffer(make([]byte, 0, 64<<10), 16<<20)
 	var rows []Row
 	line := 0
@@ -158,6 +164,9 @@ func readRows(path string) (rowsHeader, []Row, error) {
 		var r Row
 		if err := dec.Decode(&r); err != nil {
 			return h, nil, fmt.Errorf("%s:%d: %v", path, line, err)
+		}
+		if dups := input.JSONDuplicates(sc.Bytes()); len(dups) > 0 {
+			return h, nil, fmt.Errorf("%s:%d: member %q given twice; a rows file is written by spanwright, not by hand", path, line, dups[0].Where())
 		}
 		if r.Index < 0 || r.Index >= h.Scenarios {
 			return h, nil, fmt.Errorf("%s:%d: scenario index %d outside 0..%d", path, line, r.Index, h.Scenarios-1)

@@ -18,6 +18,7 @@ import (
 	lru "github.com/hashicorp/golang-lru/v2"
 	"go.yaml.in/yaml/v3"
 
+	"spanwright/geo/input"
 	"spanwright/media"
 	"spanwright/route"
 )
@@ -407,6 +408,7 @@ func (r *runner) scenario(ctx context.Context, sc Scenario) (outcome, error) {
 	if err != nil {
 		return fail(err)
 	}
+	p.MaxInputBytes = r.f.MaxInputBytes
 	inputs, err := r.inputsFile(p, planData)
 	if err != nil {
 		return fail(err)
@@ -656,7 +658,7 @@ func (r *runner) site(p *route.Plan) (*route.Site, error) {
 	for i, f := range p.Campus {
 		files[i] = p.Path(f)
 	}
-	opt := route.SiteOptions{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM}
+	opt := route.SiteOptions{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM, MaxInputBytes: p.MaxInputBytes}
 	var key strings.Builder
 	for _, f := range files {
 		abs, err := filepath.Abs(f)
@@ -676,7 +678,7 @@ func (r *runner) hash(path string) (string, error) {
 		abs = path
 	}
 	return r.hashes.get(abs, func() (string, error) {
-		data, err := os.ReadFile(path)
+		data, err := input.ReadFile(path, input.Cap(r.f.MaxInputBytes, input.DefaultDataMiB))
 		if err != nil {
 			return "", err
 		}
