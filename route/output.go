@@ -2,7 +2,6 @@ package route
 
 import (
 	"bytes"
-	"encoding/csv"
 	"encoding/json"
 	"fmt"
 	"io"
@@ -13,6 +12,7 @@ import (
 	"spanwright/geo"
 	"spanwright/media"
 	"spanwright/media/install"
+	"spanwright/route/escape"
 )
 
 // Unit systems for the outputs' edges; inside, everything is metric.
@@ -200,7 +200,7 @@ func (r *Result) routesGeoJSON() ([]byte, error) {
 
 func (r *Result) linksCSV(opt WriteOptions) ([]byte, error) {
 	var buf bytes.Buffer
-	w := csv.NewWriter(&buf)
+	w := escape.NewWriter(&buf)
 	routeH, routeF := opt.lengthCol("route")
 	latH, latF := opt.lengthCol("lateral")
 	riserH, riserF := opt.lengthCol("riser")
@@ -248,8 +248,10 @@ func (r *Result) linksCSV(opt WriteOptions) ([]byte, error) {
 			media.FormatCents(c.ConstructionCents), media.FormatCents(c.OpticsCents), l.Explain())
 		w.Write(row)
 	}
-	w.Flush()
-	return buf.Bytes(), w.Error()
+	if err := w.Flush(); err != nil {
+		return nil, err
+	}
+	return buf.Bytes(), nil
 }
 
 // Summary is the machine-readable digest of a planned scenario (summary.json).

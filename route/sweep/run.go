@@ -20,13 +20,14 @@ import (
 
 	"spanwright/media"
 	"spanwright/route"
+	"spanwright/route/escape"
 )
 
 // Files every planned scenario folder holds besides the plan's outputs.
 const (
 	PlanFile    = "plan.yaml"     // the scenario's plan: the base plan with its overrides
 	InputsFile  = "inputs.sha256" // SHA-256 of the plan and of every file it reads
-	ErrorFile   = "error.txt"     // why the scenario failed; only in a failed scenario's folder
+	ErrorFile   = "error.txt"     // why the scenario failed; only in a failed scenario's folder, hidden characters shown as on the terminal
 	SummaryFile = "summary.json"  // the plan summary, read back by a resumed sweep
 )
 
@@ -400,7 +401,7 @@ func (r *runner) scenario(ctx context.Context, sc Scenario) (outcome, error) {
 		// Messages name the scenario's plan by its id, whatever the output folder, so the
 		// rows of shards written to different folders merge into the same bytes.
 		out.row.fail(errors.New(strings.ReplaceAll(err.Error(), dir+string(filepath.Separator), sc.ID+"/")))
-		out.files = []route.OutputFile{{Name: PlanFile, Data: planData}, {Name: ErrorFile, Data: []byte(out.row.Error + "\n")}}
+		out.files = []route.OutputFile{{Name: PlanFile, Data: planData}, {Name: ErrorFile, Data: []byte(escape.Terminal(out.row.Error) + "\n")}}
 		return out, nil
 	}
 	p, err := route.ParsePlan(planPath, planData)
@@ -466,7 +467,7 @@ func (r *runner) planYAML(sc Scenario) ([]byte, error) {
 	root := doc.Content[0]
 	rebasePlanPaths(root, r.rebaseBase)
 	apply(root, sc.Set, r.rebaseSweep)
-	head := "scenario " + sc.ID + ": " + sc.Describe()
+	head := "scenario " + sc.ID + ": " + escape.Visible(sc.Describe()) // YAML comments allow no control characters
 	if b := builtIns(root); b != "" {
 		// Part of the plan's bytes, so a resumed sweep plans again when a new build changes
 		// the embedded files this scenario reads.

@@ -1,0 +1,245 @@
+package escape
+
+import (
+	"encoding/csv"
+	"fmt"
+	"io"
+	"strings"
+	"unicode"
+	"unicode/utf8"
+)
+
+// Hidden reports whether r is shown as its code point rather than as itself: a
+// bidirectional control or other format character, a line or paragraph separator, or a
+// control character other than tab and line feed (see the package doc).
+func Hidden(r rune) bool {
+	switch r {
+	case '\t', '\n':
+		return false
+	case '\u200c', '\u200d': // zero-width non-joiner and joiner: needed to spell words in several scripts
+		return false
+	case '\u2028', '\u2029':
+		return true
+	}
+	return unicode.Is(unicode.Cc, r) || unicode.Is(unicode.Cf, r)
+}
+
+// Visible returns s with every hidden character replaced by its code point, "<U+202E>",
+// and every byte that is not UTF-8 by its value, "<0xFF>". Tab and line feed stay.
+func Visible(s string) string { return visible(s, "<", ">") }
+
+// visible is Visible with the brackets given: "<" and ">", or their HTML forms.
+func visible(s, open, close string) string {
+	if !needsVisible(s) {
+		return s
+	}
+	var b strings.Builder
+	b.Grow(len(s) + 16)
+	for i := 0; i < len(s); {
+		r, n := utf8.DecodeRuneInString(s[i:])
+		switch {
+		case r == utf8.RuneError && n == 1:
+			fmt.Fprintf(&b, "%s0x%02X%s", open, s[i], close)
+		case Hidden(r):
+			fmt.Fprintf(&b, "%sU+%04X%s", open, r, close)
+		default:
+			b.WriteString(s[i : i+n])
+		}
+		i += n
+	}
+	return b.String()
+}
+
+func needsVisible(s string) bool {
+	for i := 0; i < len(s); i++ {
+		if c := s[i]; c >= utf8.RuneSelf || (c < 0x20 && c != '\t' && c != '\n') || c == 0x7f {
+			return hasHidden(s)
+		}
+	}
+	return false
+}
+
+func hasHidden(s string) bool {
+	for i := 0; i < len(s); {
+		r, n := utf8.DecodeRuneInString(s[i:])
+		if (r == utf8.RuneError && n == 1) || Hidden(r) {
+			return true
+		}
+		i += n
+	}
+	return false
+}
+
+// plainNumber reports whether s is a decimal number as the writers format them: an optional
+// minus sign, digits, and optionally a point and more digits ("-12.5", "1234.56", "7").
+func plainNumber(s string) bool {
+	s = strings.TrimPrefix(s, "-")
+	whole, frac, point := strings.Cut(s, ".")
+	return digits(whole) && (!point || digits(frac))
+}
+
+func digits(s string) bool {
+	if s == "" {
+		return false
+	}
+	for i := 0; i < len(s); i++ {
+		if s[i] < '0' || s[i] > '9' {
+			return false
+		}
+	}
+	return true
+}
+
+// CSVCell returns a CSV cell's text safe to open in a spreadsheet program: hidden characters
+// made visible, and, following OWASP's CSV injection guidance, a cell that begins with = + -
+// @ tab or carriage return prefixed with a single quote, so the program shows it as text
+// instead of running it as a formula. A plain decimal number ("-12.5") is a number, not a
+// formula, and stays as it is: numbers keep their sign and stay numbers in the spreadsheet.
+func CSVCell(s string) string {
+	s = Visible(s)
+	if s == "" || plainNumber(s) {
+		return s
+	}
+	switch s[0] {
+	case '=', '+', '-', '@', '\t', '\r':
+		return "'" + s
+	}
+	return s
+}
+
+// Writer is a CSV writer (encoding/csv, comma-separated, quoted where needed) that passes
+// every cell through CSVCell: every CSV the tool writes goes through it.
+type Writer struct {
+	w   *csv.Writer
+	rec []string
+}
+
+// NewWriter returns a Writer writing to w.
+func NewWriter(w io.Writer) *Writer { return &Writer{w: csv.NewWriter(w)} }
+
+// Write writes one record, each cell through CSVCell.
+func (w *Writer) Write(record []string) error {
+	w.rec = w.rec[:0]
+	for _, c := range record {
+		w.rec = append(w.rec, CSVCell(c))
+	}
+	return w.w.Write(w.rec)
+}
+
+// Flush writes any buffered data and returns the first error of any Write or of the flush.
+func (w *Writer) Flush() error {
+	w.w.Flush()
+	return w.w.Error()
+}
+
+// mdInline are the characters that can start inline Markdown (CommonMark and GitHub's
+// extensions: emphasis, strikethrough, code, links and images, autolinks and raw HTML,
+// entity references, table cells, math) or escape one; each is backslash-escaped.
+const mdInline = "\\`*_~[]<>&|$"
+
+// Markdown returns s as Markdown text that renders as written, in a paragraph or a table
+// cell alike: hidden characters made visible, line breaks turned into spaces (a table row
+// is one line), every character that could start inline markup backslash-escaped, and a
+// character that would start a block at the beginning of a line (#, >, +, -, =, or the
+// point of "1.") escaped too, unless s is a plain decimal number. Web addresses still
+// become links where a renderer links bare addresses.
+func Markdown(s string) string {
+	s = strings.ReplaceAll(Visible(s), "\n", " ")
+	var b strings.Builder
+	b.Grow(len(s) + 8)
+	lead := !plainNumber(s)
+	for i := 0; i < len(s); i++ {
+		c := s[i]
+		switch {
+		case strings.IndexByte(mdInline, c) >= 0:
+			b.WriteByte('\\')
+		case lead && i == 0 && strings.IndexByte("#>+-=", c) >= 0:
+			b.WriteByte('\\')
+		case lead && (c == '.' || c == ')') && i > 0 && digits(s[:i]):
+			b.WriteByte('\\')
+		}
+		b.WriteByte(c)
+	}
+	return b.String()
+}
+
+// MarkdownCode returns s as a Markdown code span, which shows its text as written,
+// markup included: hidden characters made visible, line breaks turned into spaces, and a
+// fence of more backticks than any run inside. A pipe cannot be written in a code span that
+// reads the same in a paragraph and a table cell, so s holding one is returned as
+// Markdown(s) text instead; "" stays "".
+func MarkdownCode(s string) string {
+	s = strings.ReplaceAll(Visible(s), "\n", " ")
+	if s == "" {
+		return ""
+	}
+	if strings.Contains(s, "|") {
+		return Markdown(s)
+	}
+	run, longest := 0, 0
+	for i := 0; i < len(s); i++ {
+		if s[i] == '`' {
+			run++
+			longest = max(longest, run)
+		} else {
+			run = 0
+		}
+	}
+	fence := strings.Repeat("`", longest+1)
+	// CommonMark strips one space from each side of a span that begins and ends with one,
+	// and a backtick at either end would join the fence: pad with a space each side.
+	if s[0] == '`' || s[len(s)-1] == '`' || (s[0] == ' ' && s[len(s)-1] == ' ' && strings.Trim(s, " ") != "") {
+		s = " " + s + " "
+	}
+	return fence + s + fence
+}
+
+// HTML returns an HTML page rendered by html/template with every hidden character shown as
+// its code point, escaped for HTML ("&lt;U+202E&gt;"), and every byte that is not UTF-8 as
+// "&lt;0xFF&gt;". The template escaper leaves these characters as they are; the page's own
+// markup holds none, so each one came from the input. In an attribute the value then holds
+// the visible form, which is what a tooltip or a sort key should show; html/template has
+// already percent-encoded them in links.
+func HTML(page []byte) []byte {
+	if !needsVisible(string(page)) {
+		return page
+	}
+	return []byte(visible(string(page), "&lt;", "&gt;"))
+}
+
+// Terminal returns s safe to print on a terminal: hidden characters, escape and carriage
+// return among them, shown as their code points, so text from the input can neither send
+// control sequences nor overwrite or reorder what is printed. Tab and line feed stay.
+func Terminal(s string) string { return Visible(s) }
+
+// NewTerminal returns a writer that passes everything written through Terminal before
+// writing it to w. A UTF-8 sequence split between two writes is held until the next one.
+func NewTerminal(w io.Writer) io.Writer { return &terminal{w: w} }
+
+type terminal struct {
+	w    io.Writer
+	held []byte // the start of a UTF-8 sequence the last write ended in
+}
+
+func (t *terminal) Write(p []byte) (int, error) {
+	buf := append(t.held, p...)
+	t.held = nil
+	// Hold back a sequence cut at the end, at most utf8.UTFMax-1 bytes.
+	for k := 1; k < utf8.UTFMax && k <= len(buf); k++ {
+		c := buf[len(buf)-k]
+		if c < utf8.RuneSelf {
+			break
+		}
+		if utf8.RuneStart(c) {
+			if !utf8.FullRune(buf[len(buf)-k:]) {
+				t.held = append([]byte(nil), buf[len(buf)-k:]...)
+				buf = buf[:len(buf)-k]
+			}
+			break
+		}
+	}
+	if _, err := io.WriteString(t.w, Terminal(string(buf))); err != nil {
+		return 0, err
+	}
+	return len(p), nil
+}
