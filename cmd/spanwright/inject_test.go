@@ -9,6 +9,8 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"spanwright/route/workbook"
 )
 
 // Payloads are ids and names an attacker (or an unlucky export) could put in a campus or a
@@ -96,7 +98,17 @@ func TestPayloadPlan(t *testing.T) {
 	t.Parallel()
 	dir := t.TempDir()
 	out := filepath.Join(dir, "out")
-	_, msg, code := run(t, "plan", payloadCampus(t, dir), "--out", out)
+	// The demo price book with a label that is a formula, a bidi override and ESC.
+	book, err := os.ReadFile("../../media/prices-demo.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	book = []byte(strings.Replace(string(book), "label: demo prices, invented, not a quotation", `label: "=1+2 \u202E \e[1m"`, 1))
+	prices := filepath.Join(dir, "prices.yaml")
+	if err := os.WriteFile(prices, book, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	_, msg, code := run(t, "plan", payloadCampus(t, dir), "--out", out, "--prices", prices)
 	if code != exitOK {
 		t.Fatalf("plan: exit %d: %s", code, msg)
 	}
@@ -132,6 +144,40 @@ func TestPayloadPlan(t *testing.T) {
 		if !strings.Contains(links, want) {
 			t.Errorf("links.csv lacks %q:\n%s", want, links)
 		}
+	}
+
+	if bom := string(read("bom.csv")); !strings.Contains(bom, "\ntotal,'=1+2 <U+202E> <U+001B>[1m,,,,") {
+		t.Errorf("bom.csv: the total row's label is not neutralised:\n%s", bom)
+	}
+
+	// bom.xlsx: every cell whose text begins with = is a string, not a formula (ECMA-376
+	// Part 1 §18.3.1.4: a formula is an f element), and no cell holds a raw hidden character.
+	xl, err := workbook.Open(read("bom.xlsx"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer xl.Close()
+	texts := 0
+	for _, sheet := range xl.Sheets() {
+		rows, err := xl.Rows(sheet)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for r, row := range rows {
+			for c, v := range row {
+				assertNoHidden(t, "bom.xlsx "+sheet, []byte(v))
+				if !strings.HasPrefix(v, "=") {
+					continue
+				}
+				texts++
+				if f, err := xl.Formula(sheet, workbook.Ref(c, r+1)); err != nil || f != "" {
+					t.Errorf("bom.xlsx %s!%s: text %q stored as formula %q (%v)", sheet, workbook.Ref(c, r+1), v, f, err)
+				}
+			}
+		}
+	}
+	if texts == 0 {
+		t.Error("bom.xlsx: no text beginning with = found: the payloads are missing")
 	}
 
 	page := string(read("report.html"))

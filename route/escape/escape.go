@@ -13,15 +13,25 @@ import (
 // bidirectional control or other format character, a line or paragraph separator, or a
 // control character other than tab and line feed (see the package doc).
 func Hidden(r rune) bool {
-	switch r {
-	case '\t', '\n':
+	switch {
+	case r < 0x20: // C0 controls
+		return r != '\t' && r != '\n'
+	case r < 0x7f:
 		return false
-	case '\u200c', '\u200d': // zero-width non-joiner and joiner: needed to spell words in several scripts
-		return false
-	case '\u2028', '\u2029':
+	case r <= 0x9f: // DEL and the C1 controls
 		return true
+	case r == 0xad: // soft hyphen, the only format character below U+0600
+		return true
+	case r < 0x600:
+		return false
+	case r == '\u200c', r == '\u200d': // zero-width non-joiner and joiner: needed to spell words in several scripts
+		return false
+	case r == '\u2028', r == '\u2029':
+		return true
+	case r > 0x206f && r < 0xfeff: // no format character between these (arrows, symbols, CJK)
+		return false
 	}
-	return unicode.Is(unicode.Cc, r) || unicode.Is(unicode.Cf, r)
+	return unicode.Is(unicode.Cf, r)
 }
 
 // Visible returns s with every hidden character replaced by its code point, "<U+202E>",
@@ -50,18 +60,25 @@ func visible(s, open, close string) string {
 	return b.String()
 }
 
-func needsVisible(s string) bool {
-	for i := 0; i < len(s); i++ {
-		if c := s[i]; c >= utf8.RuneSelf || (c < 0x20 && c != '\t' && c != '\n') || c == 0x7f {
-			return hasHidden(s)
-		}
+// notPlain marks the bytes needsVisible must look at: control characters other than tab and
+// line feed, DEL, and every byte of a multi-byte UTF-8 sequence.
+var notPlain = func() (t [256]bool) {
+	for c := range t {
+		t[c] = c < 0x20 && c != '\t' && c != '\n' || c >= 0x7f
 	}
-	return false
-}
+	return t
+}()
 
-func hasHidden(s string) bool {
+// needsVisible reports whether s holds a hidden character or a byte that is not UTF-8; it
+// takes a page as bytes without copying it.
+func needsVisible[T string | []byte](s T) bool {
 	for i := 0; i < len(s); {
-		r, n := utf8.DecodeRuneInString(s[i:])
+		if !notPlain[s[i]] {
+			i++
+			continue
+		}
+		// At most utf8.UTFMax bytes: converted on the stack, not copied to the heap.
+		r, n := utf8.DecodeRuneInString(string(s[i:min(i+utf8.UTFMax, len(s))]))
 		if (r == utf8.RuneError && n == 1) || Hidden(r) {
 			return true
 		}
@@ -141,21 +158,23 @@ const mdInline = "\\`*_~[]<>&|$"
 // cell alike: hidden characters made visible, line breaks turned into spaces (a table row
 // is one line), every character that could start inline markup backslash-escaped, and a
 // character that would start a block at the beginning of a line (#, >, +, -, =, or the
-// point of "1.") escaped too, unless s is a plain decimal number. Web addresses still
+// point of "1."; after any indentation) escaped too, unless s is a plain decimal number. Web addresses still
 // become links where a renderer links bare addresses.
 func Markdown(s string) string {
 	s = strings.ReplaceAll(Visible(s), "\n", " ")
 	var b strings.Builder
 	b.Grow(len(s) + 8)
+	// A block marker counts after indentation too.
+	first := len(s) - len(strings.TrimLeft(s, " \t"))
 	lead := !plainNumber(s)
 	for i := 0; i < len(s); i++ {
 		c := s[i]
 		switch {
 		case strings.IndexByte(mdInline, c) >= 0:
 			b.WriteByte('\\')
-		case lead && i == 0 && strings.IndexByte("#>+-=", c) >= 0:
+		case lead && i == first && strings.IndexByte("#>+-=", c) >= 0:
 			b.WriteByte('\\')
-		case lead && (c == '.' || c == ')') && i > 0 && digits(s[:i]):
+		case lead && (c == '.' || c == ')') && i > first && digits(s[first:i]):
 			b.WriteByte('\\')
 		}
 		b.WriteByte(c)
@@ -201,7 +220,7 @@ func MarkdownCode(s string) string {
 // the visible form, which is what a tooltip or a sort key should show; html/template has
 // already percent-encoded them in links.
 func HTML(page []byte) []byte {
-	if !needsVisible(string(page)) {
+	if !needsVisible(page) {
 		return page
 	}
 	return []byte(visible(string(page), "&lt;", "&gt;"))

@@ -5,6 +5,7 @@ import (
 	"encoding/csv"
 	"strings"
 	"testing"
+	"unicode"
 )
 
 // textCase is one input of an escaping function and the text it must give.
@@ -41,6 +42,20 @@ func TestVisible(t *testing.T) {
 		{"line and paragraph separators", "a\u2028b\u2029c", "a<U+2028>b<U+2029>c"},
 		{"invalid UTF-8", "a\xffb\xc3", "a<0xFF>b<0xC3>"},
 	})
+}
+
+// TestHiddenEveryRune checks Hidden's fast paths against its definition on every code point:
+// Unicode general categories Cc and Cf (Unicode Standard §4.5, as Go's unicode tables give
+// them), with tab, line feed, ZWNJ and ZWJ kept, and U+2028 and U+2029 (Zl, Zp) added.
+func TestHiddenEveryRune(t *testing.T) {
+	t.Parallel()
+	for r := rune(0); r <= unicode.MaxRune; r++ {
+		want := (unicode.Is(unicode.Cc, r) || unicode.Is(unicode.Cf, r) || r == 0x2028 || r == 0x2029) &&
+			r != '\t' && r != '\n' && r != 0x200c && r != 0x200d
+		if got := Hidden(r); got != want {
+			t.Errorf("U+%04X: got %v, want %v", r, got, want)
+		}
+	}
 }
 
 func TestCSVCell(t *testing.T) {
@@ -111,6 +126,8 @@ func TestMarkdown(t *testing.T) {
 		{"leading ordered list", "12. item", `12\. item`},
 		{"leading ordered list with paren", "3) item", `3\) item`},
 		{"setext underline", "===", `\===`},
+		{"indented heading", "  # big", `  \# big`},
+		{"indented ordered list", "\t7. item", "\t7\\. item"},
 		{"negative number unchanged", "-3.50", "-3.50"},
 		{"number unchanged", "12.50", "12.50"},
 		// Unicode TR #9 / CVE-2021-42574 (Trojan Source) for bidi controls

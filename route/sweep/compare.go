@@ -271,7 +271,9 @@ func currencyOf(rows []Row) string {
 // worst_margin_db (two decimals, empty without fibre legs), new_trench_m (one decimal),
 // diverse_links, diverse_missing, media_mix ("medium:legs" pairs), cost_rank, pareto
 // (yes/no), warnings and error. compare.xlsx holds the same table, numbers as numbers, with a
-// second sheet of totals as formulas; compare.md the same as a Markdown table.
+// second sheet of totals as formulas; compare.md the same as a Markdown table. Text from the
+// sweep (ids, case names, values, errors) is escaped for each file by package escape: no CSV
+// cell begins a formula, no Markdown text forms markup, hidden characters show as "<U+202E>".
 func Compare(rows []Row, keys []string) ([]route.OutputFile, error) {
 	js := judge(rows)
 	cur := currencyOf(rows)

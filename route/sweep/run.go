@@ -541,7 +541,7 @@ func cloneNode(n *yaml.Node) *yaml.Node {
 func (r *runner) inputsFile(p *route.Plan, planData []byte) ([]byte, error) {
 	var b bytes.Buffer
 	sum := sha256.Sum256(planData)
-	fmt.Fprintf(&b, "%s  %s\n", hex.EncodeToString(sum[:]), PlanFile)
+	b.WriteString(sumLine(hex.EncodeToString(sum[:]), PlanFile))
 	names := append([]string(nil), p.Campus...)
 	for _, f := range []string{p.Catalog, p.Rules, p.Prices} {
 		if f != "" {
@@ -553,9 +553,23 @@ func (r *runner) inputsFile(p *route.Plan, planData []byte) ([]byte, error) {
 		if err != nil {
 			return nil, err
 		}
-		fmt.Fprintf(&b, "%s  %s\n", h, n)
+		b.WriteString(sumLine(h, n))
 	}
 	return b.Bytes(), nil
+}
+
+// sumEscaper writes a file name as GNU sha256sum does when the name holds a backslash, line
+// feed or carriage return.
+var sumEscaper = strings.NewReplacer(`\`, `\\`, "\n", `\n`, "\r", `\r`)
+
+// sumLine is one line of a sha256sum file: "hash  name", or, as GNU coreutils writes a
+// name holding a backslash, line feed or carriage return, a backslash, the hash and the name
+// with those escaped, so a name can neither break the line nor add one.
+func sumLine(hash, name string) string {
+	if strings.ContainsAny(name, "\\\n\r") {
+		return `\` + hash + "  " + sumEscaper.Replace(name) + "\n"
+	}
+	return hash + "  " + name + "\n"
 }
 
 // resumable reports whether the scenario folder holds a finished plan of the same inputs, and
