@@ -34,8 +34,9 @@ const (
 // payloadBuildings are the campus's buildings, hub first, west to east.
 var payloadBuildings = []string{idHyperlink, idPlus, idMinus, idAt, idTab, idMarkup, idBidi, idEscape}
 
-// payloadCampus writes a campus of payloadBuildings in a row, 60 m apart, each joined to the
-// next by a duct whose id is a payload too, and a plan of it, and returns the plan's path.
+// payloadCampus writes into dir a campus of payloadBuildings in a row, 60 m apart, served by a
+// duct trunk whose ids are payloads too, and a plan of it whose name is one; it returns the
+// plan's path.
 func payloadCampus(t *testing.T, dir string) string {
 	t.Helper()
 	const lat, stepDeg, sizeDeg = 53.0, 0.0009, 0.0003 // about 60 m and 20 m east-west at 53° N
@@ -212,11 +213,12 @@ func TestPayloadSweep(t *testing.T) {
 	t.Parallel()
 	dir := t.TempDir()
 	plan := payloadCampus(t, dir)
-	hub, _ := json.Marshal(idPlus)
+	hubA, _ := json.Marshal(idPlus)
+	hubB, _ := json.Marshal(idEscape) // written back into the scenario's plan.yaml
 	caseA, _ := json.Marshal("=1+2 <script>alert('md')</script> # *x* [l](http://e.invalid)")
 	caseB, _ := json.Marshal("\u202Eesrever | `tick` \x1b[1m")
 	sweepFile := filepath.Join(dir, "s.yaml")
-	src := fmt.Sprintf("base: %s\ncases:\n  - {name: %s, design.slack_m: 2}\n  - {name: %s, hub: %s}\n", plan, caseA, caseB, hub)
+	src := fmt.Sprintf("base: %s\ncases:\n  - {name: %s, hub: %s}\n  - {name: %s, hub: %s}\n", plan, caseA, hubA, caseB, hubB)
 	if err := os.WriteFile(sweepFile, []byte(src), 0o644); err != nil {
 		t.Fatal(err)
 	}
@@ -234,7 +236,7 @@ func TestPayloadSweep(t *testing.T) {
 		return string(b)
 	}
 	csvText := read("compare.csv")
-	for _, want := range []string{`,'=1+2 <script>alert('md')</script> # *x* [l](http://e.invalid),2,`, ",'+1+2,"} {
+	for _, want := range []string{`,'=1+2 <script>alert('md')</script> # *x* [l](http://e.invalid),'+1+2,`, ",<U+001B>[31mRED,"} {
 		if !strings.Contains(csvText, want) {
 			t.Errorf("compare.csv lacks %q:\n%s", want, csvText)
 		}
@@ -244,7 +246,7 @@ func TestPayloadSweep(t *testing.T) {
 	for _, want := range []string{
 		`| \=1+2 \<script\>alert('md')\</script\> # \*x\* \[l\](http://e.invalid) |`,
 		"| \\<U+202E\\>esrever \\| \\`tick\\` \\<U+001B\\>\\[1m |",
-		`| \+1+2 |`,
+		`| \+1+2 |`, `| \<U+001B\>\[31mRED |`,
 	} {
 		if !strings.Contains(md, want) {
 			t.Errorf("compare.md lacks %q:\n%s", want, md)

@@ -24,7 +24,7 @@ func Hidden(r rune) bool {
 		return true
 	case r < 0x600:
 		return false
-	case r == '\u200c', r == '\u200d': // zero-width non-joiner and joiner: needed to spell words in several scripts
+	case r == '\u200c', r == '\u200d': // zero-width non-joiner and joiner: several scripts need them
 		return false
 	case r == '\u2028', r == '\u2029':
 		return true
@@ -109,16 +109,17 @@ func digits(s string) bool {
 
 // CSVCell returns a CSV cell's text safe to open in a spreadsheet program: hidden characters
 // made visible, and, following OWASP's CSV injection guidance, a cell that begins with = + -
-// @ tab or carriage return prefixed with a single quote, so the program shows it as text
-// instead of running it as a formula. A plain decimal number ("-12.5") is a number, not a
-// formula, and stays as it is: numbers keep their sign and stay numbers in the spreadsheet.
+// @ tab or carriage return (after any spaces) prefixed with a single quote, so the program
+// shows it as text instead of running it as a formula. A plain decimal number ("-12.5") is a
+// number, not a formula, and stays as it is: it keeps its sign and stays a number in the
+// spreadsheet.
 func CSVCell(s string) string {
 	s = Visible(s)
-	if s == "" || plainNumber(s) {
+	if plainNumber(s) {
 		return s
 	}
-	switch s[0] {
-	case '=', '+', '-', '@', '\t', '\r':
+	// A program that trims spaces on import would see the character after them first.
+	if t := strings.TrimLeft(s, " "); t != "" && strings.IndexByte("=+-@\t\r", t[0]) >= 0 {
 		return "'" + s
 	}
 	return s
@@ -158,8 +159,8 @@ const mdInline = "\\`*_~[]<>&|$"
 // cell alike: hidden characters made visible, line breaks turned into spaces (a table row
 // is one line), every character that could start inline markup backslash-escaped, and a
 // character that would start a block at the beginning of a line (#, >, +, -, =, or the
-// point of "1."; after any indentation) escaped too, unless s is a plain decimal number. Web addresses still
-// become links where a renderer links bare addresses.
+// point of "1.", after any indentation) escaped too, unless s is a plain decimal number.
+// Web addresses still become links where a renderer links bare addresses.
 func Markdown(s string) string {
 	s = strings.ReplaceAll(Visible(s), "\n", " ")
 	var b strings.Builder

@@ -70,6 +70,9 @@ func TestCSVCell(t *testing.T) {
 		{"tab", "\t=1", "'\t=1"},
 		{"carriage return shown, so no longer first", "\r=1", "<U+000D>=1"},
 		{"trigger inside is harmless", "A=1+2", "A=1+2"},
+		// common practice, no published source: an import that trims spaces sees the = first
+		{"spaces, then equals", "  =1+2", "'  =1+2"},
+		{"only spaces", "  ", "  "},
 		{"empty", "", ""},
 		// a plain number is a constant in every spreadsheet program, not a formula
 		{"negative number stays a number", "-12.5", "-12.5"},
