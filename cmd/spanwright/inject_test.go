@@ -276,8 +276,9 @@ func TestPayloadSweep(t *testing.T) {
 	}
 }
 
-// TestPayloadTerminal runs the real main (as a child process) on the payload campus: what it
-// prints on stdout and stderr holds no raw ESC or bidi control, the ids shown escaped.
+// TestPayloadTerminal runs the real main (as a child process) on the payload campus and on a
+// campus with a line feed in an id: what it prints on stdout and stderr holds no raw ESC or
+// bidi control and no line an id added, the ids shown escaped.
 func TestPayloadTerminal(t *testing.T) {
 	t.Parallel()
 	dir := t.TempDir()
@@ -289,11 +290,26 @@ func TestPayloadTerminal(t *testing.T) {
 	if err := os.WriteFile(plan, []byte(src), 0o644); err != nil {
 		t.Fatal(err)
 	}
+	// A building whose id holds a line feed and a forged line, which cannot reach the hub.
+	island, err := os.ReadFile("testdata/plans/island.geojson")
+	if err != nil {
+		t.Fatal(err)
+	}
+	forged := "hub         HQ: every building can reach it"
+	island = []byte(strings.Replace(string(island), `"id":"ISLE"`, `"id":"ISLE\n`+forged+`"`, 1))
+	if err := os.WriteFile(filepath.Join(dir, "island.geojson"), island, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	islandPlan := filepath.Join(dir, "island.yaml")
+	if err := os.WriteFile(islandPlan, []byte("name: island\ncampus: [island.geojson]\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
 	for _, tc := range []struct {
 		args []string
 		code int
 		want string // on stdout or stderr
 	}{
+		{[]string{"check", islandPlan}, exitInvalid, "cannot reach it: [ISLE<U+000A>" + forged + "]"},
 		{[]string{"check", plan}, exitOK, "hub         <U+001B>[31mRED: every building can reach it"},
 		{[]string{"plan", plan, "--out", filepath.Join(dir, "out")}, exitInfeasible, "  <U+001B>[31mRED-B<U+202E>evil<U+2066> diverse: "},
 		{[]string{"plan", plan, "--out", filepath.Join(dir, "out2"), "--prices", filepath.Join(dir, "none\x1b[2J.yaml")}, exitInvalid, "none<U+001B>[2J.yaml"},
@@ -308,8 +324,12 @@ func TestPayloadTerminal(t *testing.T) {
 		}
 		assertNoHidden(t, tc.args[0]+" stdout", []byte(stdout.String()))
 		assertNoHidden(t, tc.args[0]+" stderr", []byte(stderr.String()))
-		if all := stdout.String() + stderr.String(); !strings.Contains(all, tc.want) {
+		all := stdout.String() + stderr.String()
+		if !strings.Contains(all, tc.want) {
 			t.Errorf("%q: output lacks %q:\n%s", tc.args, tc.want, all)
+		}
+		if strings.Contains("\n"+all, "\n"+forged) {
+			t.Errorf("%q: an id added the line %q:\n%s", tc.args, forged, all)
 		}
 	}
 }

@@ -29,7 +29,7 @@ func main() {
 	signal.Stop(sigs)
 	cancel()
 	if err != nil {
-		fmt.Fprintf(os.Stderr, "spanwright: %s\n", escape.Terminal(err.Error()))
+		fmt.Fprintf(escape.NewTerminal(os.Stderr), "spanwright: %v\n", err)
 	}
 	code := exitCode(err)
 	if s, ok := got.Load().(syscall.Signal); ok && err != nil && errors.Is(err, context.Canceled) {

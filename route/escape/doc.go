@@ -16,5 +16,6 @@
 // routes.geojson, which keep every id exactly.
 //
 // One helper per output kind: CSVCell (and Writer, which applies it to every cell),
-// Markdown and MarkdownCode, HTML, and Terminal (and NewTerminal, a writer).
+// Markdown and MarkdownCode, HTML, and for the terminal NewTerminal (a writer for the whole
+// stream) and Terminal (for one value within a line, which shows line feed and tab too).
 package escape

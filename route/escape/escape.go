@@ -227,13 +227,32 @@ func HTML(page []byte) []byte {
 	return []byte(visible(string(page), "&lt;", "&gt;"))
 }
 
-// Terminal returns s safe to print on a terminal: hidden characters, escape and carriage
-// return among them, shown as their code points, so text from the input can neither send
-// control sequences nor overwrite or reorder what is printed. Tab and line feed stay.
-func Terminal(s string) string { return Visible(s) }
+// Terminal returns one value from the input (an id, a name) safe to print within a line on
+// a terminal: every hidden character, escape and carriage return among them, and line feed
+// and tab too, shown as its code point, so the value can neither send control sequences nor
+// overwrite, reorder or add lines.
+func Terminal(s string) string {
+	s = Visible(s)
+	if strings.ContainsAny(s, "\n\t") {
+		s = strings.NewReplacer("\n", "<U+000A>", "\t", "<U+0009>").Replace(s)
+	}
+	return s
+}
 
-// NewTerminal returns a writer that passes everything written through Terminal before
-// writing it to w. A UTF-8 sequence split between two writes is held until the next one.
+// TerminalList returns values from the input each through Terminal, written as fmt's %v
+// writes a slice of strings: "[a b c]".
+func TerminalList(values []string) string {
+	out := make([]string, len(values))
+	for i, v := range values {
+		out[i] = Terminal(v)
+	}
+	return "[" + strings.Join(out, " ") + "]"
+}
+
+// NewTerminal returns a writer for a terminal that passes everything written through Visible
+// before writing it to w: hidden characters are shown, line feed and tab stay, as the
+// writer's own lines need them (an id printed inside a line goes through Terminal first). A
+// UTF-8 sequence split between two writes is held until the next one.
 func NewTerminal(w io.Writer) io.Writer { return &terminal{w: w} }
 
 type terminal struct {
@@ -258,7 +277,7 @@ func (t *terminal) Write(p []byte) (int, error) {
 			break
 		}
 	}
-	if _, err := io.WriteString(t.w, Terminal(string(buf))); err != nil {
+	if _, err := io.WriteString(t.w, Visible(string(buf))); err != nil {
 		return 0, err
 	}
 	return len(p), nil

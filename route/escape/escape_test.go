@@ -170,6 +170,23 @@ func TestHTML(t *testing.T) {
 	})
 }
 
+func TestTerminal(t *testing.T) {
+	t.Parallel()
+	check(t, Terminal, []textCase{
+		// ECMA-48: ESC [ starts a control sequence, CR returns to the start of the line
+		{"escape sequence", "\x1b[2Jid", "<U+001B>[2Jid"},
+		{"carriage return", "ok\rFAIL", "ok<U+000D>FAIL"},
+		// a value within a line may not add lines or columns
+		{"line feed", "ISLE\nhub HQ: ok", "ISLE<U+000A>hub HQ: ok"},
+		{"tab", "a\tb", "a<U+0009>b"},
+		// Unicode TR #9 / CVE-2021-42574 (Trojan Source) for bidi controls
+		{"bidi override", "B\u202E1", "B<U+202E>1"},
+	})
+	if got, want := TerminalList([]string{"A", "B\nC", "\x1b"}), "[A B<U+000A>C <U+001B>]"; got != want {
+		t.Errorf("TerminalList: got %q, want %q", got, want)
+	}
+}
+
 func TestTerminalWriter(t *testing.T) {
 	t.Parallel()
 	// ECMA-48: ESC [ starts a control sequence; Unicode TR #9 / CVE-2021-42574 for U+202E

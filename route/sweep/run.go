@@ -401,7 +401,7 @@ func (r *runner) scenario(ctx context.Context, sc Scenario) (outcome, error) {
 		// Messages name the scenario's plan by its id, whatever the output folder, so the
 		// rows of shards written to different folders merge into the same bytes.
 		out.row.fail(errors.New(strings.ReplaceAll(err.Error(), dir+string(filepath.Separator), sc.ID+"/")))
-		out.files = []route.OutputFile{{Name: PlanFile, Data: planData}, {Name: ErrorFile, Data: []byte(escape.Terminal(out.row.Error) + "\n")}}
+		out.files = []route.OutputFile{{Name: PlanFile, Data: planData}, {Name: ErrorFile, Data: []byte(escape.Visible(out.row.Error) + "\n")}}
 		return out, nil
 	}
 	p, err := route.ParsePlan(planPath, planData)
