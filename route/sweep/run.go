@@ -27,7 +27,7 @@ import (
 const (
 	PlanFile    = "plan.yaml"     // the scenario's plan: the base plan with its overrides
 	InputsFile  = "inputs.sha256" // SHA-256 of the plan and of every file it reads
-	ErrorFile   = "error.txt"     // why the scenario failed; only in a failed scenario's folder, hidden characters shown as on the terminal
+	ErrorFile   = "error.txt"     // why the scenario failed (hidden characters shown); only in a failed scenario's folder
 	SummaryFile = "summary.json"  // the plan summary, read back by a resumed sweep
 )
 
