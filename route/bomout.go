@@ -2,13 +2,13 @@ package route
 
 import (
 	"bytes"
-	"encoding/csv"
 	"fmt"
 	"strconv"
 	"strings"
 
 	"spanwright/media"
 	"spanwright/media/install"
+	"spanwright/route/escape"
 	"spanwright/route/workbook"
 )
 
@@ -60,7 +60,7 @@ func (r *Result) bomCSV(opt WriteOptions) ([]byte, error) {
 	b := r.Estimate.BOM
 	cur := strings.ToLower(b.Currency)
 	var buf bytes.Buffer
-	w := csv.NewWriter(&buf)
+	w := escape.NewWriter(&buf)
 	w.Write([]string{"category", "item", "unit", "quantity", "unit_price_" + cur, "extended_" + cur})
 	for _, l := range b.Lines {
 		unit, qty, price := bomUnit(opt, l)
@@ -82,8 +82,10 @@ func (r *Result) bomCSV(opt WriteOptions) ([]byte, error) {
 	w.Write([]string{rowTax, pct(b.TaxBP) + " % of subtotal, contingency and overhead", "%", pct(b.TaxBP),
 		media.FormatCents(taxBase), media.FormatCents(b.TaxCents)})
 	w.Write([]string{rowTotal, b.Label, "", "", "", media.FormatCents(b.TotalCents)})
-	w.Flush()
-	return buf.Bytes(), w.Error()
+	if err := w.Flush(); err != nil {
+		return nil, err
+	}
+	return buf.Bytes(), nil
 }
 
 // units of the workbook's physical columns.

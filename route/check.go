@@ -7,6 +7,8 @@ import (
 	"text/tabwriter"
 
 	"gonum.org/v1/gonum/graph/topo"
+
+	"spanwright/route/escape"
 )
 
 // CheckReport is what `spanwright check` prints about a campus.
@@ -92,6 +94,7 @@ func (s *Site) Check(hub string) CheckReport {
 
 // Print writes the report as aligned text; lengths in metres, or feet when imperial.
 func (r CheckReport) Print(w io.Writer, opt WriteOptions) error {
+	t := escape.Terminal // ids and names from the input, each within a line
 	unit, scale := "m", 1.0
 	if opt.imperial() {
 		unit, scale = "ft", FtPerM
@@ -106,7 +109,7 @@ func (r CheckReport) Print(w io.Writer, opt WriteOptions) error {
 	fmt.Fprintf(tw, "  type\tstatus\tcount\tlength %s\t\n", unit)
 	var total float64
 	for _, p := range r.Pathways {
-		fmt.Fprintf(tw, "  %s\t%s\t%d\t%.1f\t\n", p.Type, p.Status, p.Pathways, p.LengthM*scale)
+		fmt.Fprintf(tw, "  %s\t%s\t%d\t%.1f\t\n", t(p.Type), t(p.Status), p.Pathways, p.LengthM*scale)
 		total += p.LengthM
 	}
 	fmt.Fprintf(tw, "  all\t\t\t%.1f\t\n", total*scale)
@@ -117,13 +120,13 @@ func (r CheckReport) Print(w io.Writer, opt WriteOptions) error {
 	case r.Hub == "":
 		fmt.Fprintln(w, "hub         none (no building has role mc and none was named)")
 	case len(r.Unreachable) == 0:
-		fmt.Fprintf(w, "hub         %s: every building can reach it\n", r.Hub)
+		fmt.Fprintf(w, "hub         %s: every building can reach it\n", t(r.Hub))
 	default:
-		fmt.Fprintf(w, "hub         %s: %d buildings cannot reach it: %v\n", r.Hub, len(r.Unreachable), r.Unreachable)
+		fmt.Fprintf(w, "hub         %s: %d buildings cannot reach it: %s\n", t(r.Hub), len(r.Unreachable), escape.TerminalList(r.Unreachable))
 	}
 	fmt.Fprintf(w, "warnings    %d\n", len(r.Warnings))
 	for _, m := range r.Warnings {
-		fmt.Fprintf(w, "  warning: %s\n", m)
+		fmt.Fprintf(w, "  warning: %s\n", t(m))
 	}
 	return nil
 }

@@ -2,7 +2,6 @@ package route
 
 import (
 	"bytes"
-	"encoding/csv"
 	"encoding/json"
 	"fmt"
 	"io"
@@ -13,6 +12,7 @@ import (
 	"spanwright/geo"
 	"spanwright/media"
 	"spanwright/media/install"
+	"spanwright/route/escape"
 )
 
 // Unit systems for the outputs' edges; inside, everything is metric.
@@ -200,7 +200,7 @@ func (r *Result) routesGeoJSON() ([]byte, error) {
 
 func (r *Result) linksCSV(opt WriteOptions) ([]byte, error) {
 	var buf bytes.Buffer
-	w := csv.NewWriter(&buf)
+	w := escape.NewWriter(&buf)
 	routeH, routeF := opt.lengthCol("route")
 	latH, latF := opt.lengthCol("lateral")
 	riserH, riserF := opt.lengthCol("riser")
@@ -248,8 +248,10 @@ func (r *Result) linksCSV(opt WriteOptions) ([]byte, error) {
 			media.FormatCents(c.ConstructionCents), media.FormatCents(c.OpticsCents), l.Explain())
 		w.Write(row)
 	}
-	w.Flush()
-	return buf.Bytes(), w.Error()
+	if err := w.Flush(); err != nil {
+		return nil, err
+	}
+	return buf.Bytes(), nil
 }
 
 // Summary is the machine-readable digest of a planned scenario (summary.json).
@@ -408,12 +410,13 @@ func (r *Result) PrintSummary(w io.Writer, opt WriteOptions) error {
 	if opt.imperial() {
 		unit, force = "ft", "lbf"
 	}
-	fmt.Fprintf(w, "plan %q: hub %s, %d links, %d legs, %s of route\n", s.Scenario, s.Hub, s.Links, s.Legs, length(s.TotalRouteM))
+	t := escape.Terminal // ids and names from the input, each within a line
+	fmt.Fprintf(w, "plan %q: hub %s, %d links, %d legs, %s of route\n", s.Scenario, t(s.Hub), s.Links, s.Legs, length(s.TotalRouteM))
 	if s.Infeasible > 0 {
 		fmt.Fprintf(w, "%d legs infeasible:\n", s.Infeasible)
 		for _, l := range r.Legs {
 			if !l.Feasible {
-				fmt.Fprintf(w, "  %s %s: %s\n", l.Link.ID, l.Name, l.Reason)
+				fmt.Fprintf(w, "  %s %s: %s\n", t(l.Link.ID), t(l.Name), t(l.Reason))
 			}
 		}
 	}
@@ -429,7 +432,7 @@ func (r *Result) PrintSummary(w io.Writer, opt WriteOptions) error {
 		}
 		var mix []string
 		for _, m := range sortedKeys(s.MediaMix) {
-			mix = append(mix, fmt.Sprintf("%s %d (%d legs)", m, len(links[m]), s.MediaMix[m]))
+			mix = append(mix, fmt.Sprintf("%s %d (%d legs)", t(m), len(links[m]), s.MediaMix[m]))
 		}
 		fmt.Fprintf(w, "links by medium: %s\n", strings.Join(mix, ", "))
 	}
@@ -445,7 +448,7 @@ func (r *Result) PrintSummary(w io.Writer, opt WriteOptions) error {
 	if len(byCons) > 0 {
 		var parts []string
 		for _, k := range sortedKeys(byCons) {
-			parts = append(parts, k+" "+length(byCons[k]))
+			parts = append(parts, t(k)+" "+length(byCons[k]))
 		}
 		fmt.Fprintf(w, "cable bought: %s (%s in all, %d mid-span splices)\n", strings.Join(parts, ", "), length(s.CableM), s.MidSpanSplices)
 	}
@@ -470,26 +473,26 @@ func (r *Result) PrintSummary(w io.Writer, opt WriteOptions) error {
 				hi = p
 			}
 		}
-		t, rated := hi.TensionN, hi.RatedN
+		tn, rated := hi.TensionN, hi.RatedN
 		if opt.imperial() {
-			t, rated = install.NToLbf(t), install.NToLbf(rated)
+			tn, rated = install.NToLbf(tn), install.NToLbf(rated)
 		}
 		fmt.Fprintf(w, "pulling: %d pull sections, %d over rating; highest %.1f %s of %.1f %s rated (%s %s, from %s to %s)\n",
-			s.PullSections, s.PullsOverRating, t, force, rated, force, r.Legs[hi.Leg].Link.ID, r.Legs[hi.Leg].Name, hi.From, hi.To)
+			s.PullSections, s.PullsOverRating, tn, force, rated, force, t(r.Legs[hi.Leg].Link.ID), t(r.Legs[hi.Leg].Name), t(hi.From), t(hi.To))
 	}
 	b := e.BOM
 	var cats []string
 	for _, x := range b.Subtotal {
 		cats = append(cats, x.Category+" "+media.FormatCents(x.Cents))
 	}
-	fmt.Fprintf(w, "total %s %s: %s, markups %s (%s)\n", media.FormatCents(b.TotalCents), b.Currency, strings.Join(cats, ", "),
-		media.FormatCents(b.TotalCents-b.SubtotalCents), b.Label)
+	fmt.Fprintf(w, "total %s %s: %s, markups %s (%s)\n", media.FormatCents(b.TotalCents), t(b.Currency), strings.Join(cats, ", "),
+		media.FormatCents(b.TotalCents-b.SubtotalCents), t(b.Label))
 	if s.BudgetCents > 0 {
 		word, over := "under", -s.OverBudgetCents
 		if s.OverBudgetCents > 0 {
 			word, over = "over", s.OverBudgetCents
 		}
-		fmt.Fprintf(w, "budget %s %s: %s by %s (%.1f %%)\n", media.FormatCents(s.BudgetCents), b.Currency, word, media.FormatCents(over), math.Abs(s.OverBudgetPct))
+		fmt.Fprintf(w, "budget %s %s: %s by %s (%.1f %%)\n", media.FormatCents(s.BudgetCents), t(b.Currency), word, media.FormatCents(over), math.Abs(s.OverBudgetPct))
 	}
 	if s.WarningCount > 0 {
 		fmt.Fprintf(w, "%d warnings (see summary.json)\n", s.WarningCount)

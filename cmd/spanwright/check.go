@@ -9,6 +9,7 @@ import (
 	"github.com/urfave/cli/v2"
 
 	"spanwright/route"
+	"spanwright/route/escape"
 )
 
 func checkCommand() *cli.Command {
@@ -60,7 +61,7 @@ func runCheck(ctx context.Context, args []string, maxBytes int64, opt route.Writ
 		return fmt.Errorf("%w: unknown hub %q", errInvalid, hub)
 	}
 	if len(rep.Unreachable) > 0 {
-		return fmt.Errorf("%w: %d buildings cannot reach the hub %s: %v", errInvalid, len(rep.Unreachable), rep.Hub, rep.Unreachable)
+		return fmt.Errorf("%w: %d buildings cannot reach the hub %s: %s", errInvalid, len(rep.Unreachable), escape.Terminal(rep.Hub), escape.TerminalList(rep.Unreachable))
 	}
 	return nil
 }

@@ -9,6 +9,8 @@ import (
 	"os/signal"
 	"sync/atomic"
 	"syscall"
+
+	"spanwright/route/escape"
 )
 
 func main() {
@@ -22,11 +24,12 @@ func main() {
 		cancel()
 	}()
 	app := newApp()
+	app.Writer = escape.NewTerminal(os.Stdout) // ids and names from the input, printed
 	err := app.RunContext(ctx, intersperse(app, os.Args))
 	signal.Stop(sigs)
 	cancel()
 	if err != nil {
-		fmt.Fprintf(os.Stderr, "spanwright: %v\n", err)
+		fmt.Fprintf(escape.NewTerminal(os.Stderr), "spanwright: %v\n", err)
 	}
 	code := exitCode(err)
 	if s, ok := got.Load().(syscall.Signal); ok && err != nil && errors.Is(err, context.Canceled) {

@@ -10,6 +10,7 @@ import (
 	"github.com/urfave/cli/v2"
 
 	"spanwright/route"
+	"spanwright/route/escape"
 	"spanwright/route/report"
 )
 
@@ -72,7 +73,7 @@ func runPlan(ctx context.Context, fsys fs.FS, p *route.Plan, out string, opt rou
 	if err := res.PrintSummary(w, opt); err != nil {
 		return err
 	}
-	fmt.Fprintf(w, "outputs written to %s\n", out)
+	fmt.Fprintf(w, "outputs written to %s\n", escape.Terminal(out))
 	return res.Infeasible()
 }
 

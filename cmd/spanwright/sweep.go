@@ -17,6 +17,7 @@ import (
 	"golang.org/x/term"
 
 	"spanwright/route"
+	"spanwright/route/escape"
 	"spanwright/route/report"
 	"spanwright/route/sweep"
 )
@@ -155,9 +156,9 @@ func printReport(w io.Writer, rep *sweep.Report, shard sweep.Shard) {
 			fmt.Fprintf(w, "  and %d more failed (see compare.md or each scenario's error.txt)\n", len(rep.Failures)-10)
 			break
 		}
-		fmt.Fprintf(w, "  failed %s: %s\n", r.ID, strings.ReplaceAll(r.Error, "\n", "; "))
+		fmt.Fprintf(w, "  failed %s: %s\n", escape.Terminal(r.ID), escape.Terminal(strings.ReplaceAll(r.Error, "\n", "; ")))
 	}
-	fmt.Fprintf(w, "written: %s\n", strings.Join(rep.Files, ", "))
+	fmt.Fprintf(w, "written: %s\n", escape.Terminal(strings.Join(rep.Files, ", ")))
 	if !shard.Whole() {
 		fmt.Fprintln(w, "when every shard has run, join them with: spanwright merge DIR... --out DIR")
 	}

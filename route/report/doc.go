@@ -15,6 +15,7 @@
 // scatter plot of every planned scenario with the Pareto-optimal ones marked.
 //
 // Every text that comes from the input (names, ids, reasons, warnings) goes through
-// html/template and renders as text. Output bytes depend only on the input: no timestamps,
+// html/template and renders as text; the rendered page then passes through escape.HTML, which
+// shows bidirectional controls and other hidden characters as "<U+202E>". Output bytes depend only on the input: no timestamps,
 // sorted lists, fixed decimals.
 package report

@@ -12,6 +12,7 @@ import (
 	"spanwright/media"
 	"spanwright/media/install"
 	"spanwright/route"
+	"spanwright/route/escape"
 )
 
 // FileName is the plan report's file name in a plan's output folder.
@@ -222,7 +223,7 @@ func Plan(r *route.Result, opt Options) ([]byte, error) {
 	if err := templates().ExecuteTemplate(&b, "plan", v); err != nil {
 		return nil, fmt.Errorf("report: %w", err)
 	}
-	return b.Bytes(), nil
+	return escape.HTML(b.Bytes()), nil
 }
 
 // File renders the plan report as an output file named FileName.

@@ -9,6 +9,7 @@ import (
 	"strconv"
 
 	"spanwright/route"
+	"spanwright/route/escape"
 	"spanwright/route/sweep"
 )
 
@@ -84,7 +85,7 @@ func Sweep(c *sweep.Comparison, opt SweepOptions) ([]byte, error) {
 	if err := templates().ExecuteTemplate(&b, "sweep", v); err != nil {
 		return nil, fmt.Errorf("report: %w", err)
 	}
-	return b.Bytes(), nil
+	return escape.HTML(b.Bytes()), nil
 }
 
 // SweepFiles renders the sweep report as the output file SweepFileName; it suits

@@ -117,3 +117,49 @@ func TestAxis(t *testing.T) {
 		t.Errorf("a single value gets ticks %v", one)
 	}
 }
+
+// TestSweepReportHidden renders a comparison whose ids, case names and override values hold
+// bidi controls and terminal controls: each must show as its code point in the page's text
+// and attributes, never raw, and a scenario's link must still reach its folder.
+func TestSweepReportHidden(t *testing.T) {
+	t.Parallel()
+	cases := []struct {
+		name, text, shown string
+	}{
+		// Unicode TR #9 / CVE-2021-42574 (Trojan Source) for bidi controls
+		{"override", "B\u202Eevil", "B&lt;U+202E&gt;evil"},
+		{"isolate", "\u2067x\u2069", "&lt;U+2067&gt;x&lt;U+2069&gt;"},
+		{"mark", "a\u200Fb", "a&lt;U+200F&gt;b"},
+		// HTML Living Standard §13.1.4: no control characters in text; ECMA-48 for ESC and CSI
+		{"escape", "\x1b[2Jx", "&lt;U+001B&gt;[2Jx"},
+		{"C1 control", "a\u009bb", "a&lt;U+009B&gt;b"},
+	}
+	var rows []sweep.Row
+	for i, tc := range cases {
+		rows = append(rows, sweep.Row{Index: i, ID: tc.text + "-id", Case: tc.text, Set: [][2]string{{"hub", tc.text}},
+			Status: sweep.StatusOK, Currency: "USD", TotalCents: int64(100 + i), WorstMarginDB: margin(1)})
+	}
+	b, err := Sweep(sweep.Judge(rows, []string{"hub"}), SweepOptions{Title: "hidden \u202E title"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	html := string(b)
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			if strings.Contains(html, tc.text) {
+				t.Errorf("%s: the page holds %q raw", tc.name, tc.text)
+			}
+			// three cells (id, case, hub) and the point's title
+			if n := strings.Count(html, tc.shown); n < 3 {
+				t.Errorf("%s: %q shown %d times, want at least 3", tc.name, tc.shown, n)
+			}
+		})
+	}
+	// html/template percent-encodes a link (RFC 3986): U+202E is E2 80 AE in UTF-8
+	if !strings.Contains(html, `href="B%e2%80%aeevil-id/`) && !strings.Contains(html, `href="B%E2%80%AEevil-id/`) {
+		t.Errorf("the link to the scenario folder is not percent-encoded:\n%s", html)
+	}
+	if !strings.Contains(html, "<title>Sweep comparison: hidden &lt;U+202E&gt; title</title>") {
+		t.Error("the title does not show its bidi control")
+	}
+}

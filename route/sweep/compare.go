@@ -2,7 +2,6 @@ package sweep
 
 import (
 	"bytes"
-	"encoding/csv"
 	"fmt"
 	"math"
 	"sort"
@@ -10,6 +9,7 @@ import (
 	"strings"
 
 	"spanwright/route"
+	"spanwright/route/escape"
 	"spanwright/route/workbook"
 )
 
@@ -271,7 +271,9 @@ func currencyOf(rows []Row) string {
 // worst_margin_db (two decimals, empty without fibre legs), new_trench_m (one decimal),
 // diverse_links, diverse_missing, media_mix ("medium:legs" pairs), cost_rank, pareto
 // (yes/no), warnings and error. compare.xlsx holds the same table, numbers as numbers, with a
-// second sheet of totals as formulas; compare.md the same as a Markdown table.
+// second sheet of totals as formulas; compare.md the same as a Markdown table. Text from the
+// sweep (ids, case names, values, errors) is escaped for each file by package escape: no CSV
+// cell begins a formula, no Markdown text forms markup, hidden characters show as "<U+202E>".
 func Compare(rows []Row, keys []string) ([]route.OutputFile, error) {
 	js := judge(rows)
 	cur := currencyOf(rows)
@@ -293,7 +295,7 @@ func Compare(rows []Row, keys []string) ([]route.OutputFile, error) {
 
 func compareCSV(js []judged, keys []string) ([]byte, error) {
 	var b bytes.Buffer
-	w := csv.NewWriter(&b)
+	w := escape.NewWriter(&b)
 	head := append([]string{"index", "id", "case"}, keys...)
 	for _, c := range fixedColumns {
 		head = append(head, c.csv)
@@ -309,8 +311,10 @@ func compareCSV(js []judged, keys []string) ([]byte, error) {
 		}
 		w.Write(rec)
 	}
-	w.Flush()
-	return b.Bytes(), w.Error()
+	if err := w.Flush(); err != nil {
+		return nil, err
+	}
+	return b.Bytes(), nil
 }
 
 func unitOf(c column, cur string) string {
@@ -395,20 +399,23 @@ func compareMD(js []judged, keys []string, cur string) []byte {
 			failed++
 		}
 		if j.pareto {
-			front = append(front, "`"+j.ID+"`")
+			front = append(front, escape.MarkdownCode(j.ID))
 		}
 	}
 	fmt.Fprintf(&b, "# Sweep comparison\n\n")
 	fmt.Fprintf(&b, "%d scenarios: %d ok, %d with infeasible legs, %d failed.", len(js), ok, inf, failed)
 	if cur != "" {
-		fmt.Fprintf(&b, " Money in %s.", cur)
+		fmt.Fprintf(&b, " Money in %s.", escape.Markdown(cur))
 	}
 	fmt.Fprintf(&b, "\nRank and Pareto flag consider only ok scenarios (every leg feasible); Pareto over total cost,\n")
 	fmt.Fprintf(&b, "worst loss margin (higher is better) and links lacking a diverse route.\n\n")
 	if len(front) > 0 {
 		fmt.Fprintf(&b, "Pareto optimal: %s.\n\n", strings.Join(front, ", "))
 	}
-	head := append([]string{"#", "id", "case"}, keys...)
+	head := []string{"#", "id", "case"}
+	for _, k := range keys {
+		head = append(head, escape.Markdown(k))
+	}
 	align := []string{"--:", "---", "---"}
 	for range keys {
 		align = append(align, "---")
@@ -423,7 +430,7 @@ func compareMD(js []judged, keys []string, cur string) []byte {
 		if u := unitOf(c, cur); u != "" {
 			h += " (" + u + ")"
 		}
-		head = append(head, h)
+		head = append(head, escape.Markdown(h))
 		if c.csv == "status" || c.csv == "media_mix" || c.csv == "pareto" {
 			align = append(align, "---")
 		} else {
@@ -433,12 +440,12 @@ func compareMD(js []judged, keys []string, cur string) []byte {
 	mdRow(&b, head)
 	mdRow(&b, align)
 	for _, j := range js {
-		rec := []string{strconv.Itoa(j.Index), "`" + j.ID + "`", j.Case}
+		rec := []string{strconv.Itoa(j.Index), escape.MarkdownCode(j.ID), escape.Markdown(j.Case)}
 		for _, k := range keys {
-			rec = append(rec, j.value(k))
+			rec = append(rec, escape.Markdown(j.value(k)))
 		}
 		for _, c := range cols {
-			rec = append(rec, c.text(j))
+			rec = append(rec, escape.Markdown(c.text(j)))
 		}
 		mdRow(&b, rec)
 	}
@@ -446,23 +453,20 @@ func compareMD(js []judged, keys []string, cur string) []byte {
 		fmt.Fprintf(&b, "\n## Failed scenarios\n\n")
 		for _, j := range js {
 			if j.Status == StatusFailed {
-				fmt.Fprintf(&b, "- `%s`: %s\n", j.ID, mdEscape(oneLine(j.Error)))
+				fmt.Fprintf(&b, "- %s: %s\n", escape.MarkdownCode(j.ID), escape.Markdown(oneLine(j.Error)))
 			}
 		}
 	}
 	return b.Bytes()
 }
 
+// mdRow writes one table row of cells already in Markdown (see escape.Markdown).
 func mdRow(b *bytes.Buffer, cells []string) {
 	b.WriteString("|")
 	for _, c := range cells {
 		b.WriteString(" ")
-		b.WriteString(mdEscape(c))
+		b.WriteString(c)
 		b.WriteString(" |")
 	}
 	b.WriteString("\n")
-}
-
-func mdEscape(s string) string {
-	return strings.NewReplacer("|", `\|`, "\n", " ").Replace(s)
 }

@@ -1,10 +1,14 @@
 package sweep
 
 import (
+	"bytes"
+	"encoding/csv"
 	"math"
 	"math/rand/v2"
 	"strings"
 	"testing"
+
+	"spanwright/route/workbook"
 )
 
 func fp(x float64) *float64 { return &x }
@@ -136,5 +140,103 @@ func TestCompareMarkdown(t *testing.T) {
 	}
 	if !strings.Contains(csvText, "0,a-1,,A|B,ok,EUR,1.50,1.00,0.50,0,1.23,0.0,0,0,os2:2,1,yes,0,\n") {
 		t.Errorf("compare.csv:\n%s", csvText)
+	}
+}
+
+// TestComparePayloads writes the comparison of rows whose ids, case names, override values
+// and errors carry formula, markup, bidi and terminal payloads (ids as a merged rows file
+// could hold them; a sweep file's ids are slugs): every file must show them as text.
+func TestComparePayloads(t *testing.T) {
+	t.Parallel()
+	payloads := []struct {
+		name, text string
+		csv        string // the cell in compare.csv
+		md         string // the cell in compare.md
+		xlsx       string // the text in compare.xlsx
+	}{
+		// OWASP CSV injection guidance: = + - @ tab CR begin a formula
+		{"equals", `=HYPERLINK("http://e.invalid","x")`, `'=HYPERLINK("http://e.invalid","x")`, `\=HYPERLINK("http://e.invalid","x")`, `=HYPERLINK("http://e.invalid","x")`},
+		{"plus", "+1+2", "'+1+2", `\+1+2`, "+1+2"},
+		{"minus", "-2+3", "'-2+3", `\-2+3`, "-2+3"},
+		{"at", "@SUM(A1)", "'@SUM(A1)", "@SUM(A1)", "@SUM(A1)"},
+		{"tab", "\t=1", "'\t=1", "\t\\=1", "\t=1"},
+		// CommonMark 0.31 §2.4 and GitHub Flavored Markdown 0.29 §4.10 (pipes in cells)
+		{"markup", "<script>alert(1)</script>|*x*`y`", "<script>alert(1)</script>|*x*`y`", "\\<script\\>alert(1)\\</script\\>\\|\\*x\\*\\`y\\`", "<script>alert(1)</script>|*x*`y`"},
+		{"heading, then a list on a second line", "# one\n- two", "# one\n- two", `\# one - two`, "# one\n- two"},
+		// Unicode TR #9 / CVE-2021-42574 (Trojan Source) for bidi controls
+		{"bidi", "B\u202Eevil\u2066", "B<U+202E>evil<U+2066>", `B\<U+202E\>evil\<U+2066\>`, "B<U+202E>evil<U+2066>"},
+		// ECMA-48: ESC [ begins a terminal control sequence
+		{"escape", "\x1b[31mRED", "<U+001B>[31mRED", `\<U+001B\>\[31mRED`, "<U+001B>[31mRED"},
+	}
+	var rows []Row
+	for i, p := range payloads {
+		rows = append(rows, Row{Index: i, ID: p.text, Case: p.text, Set: [][2]string{{"hub", p.text}}, Status: StatusOK,
+			Currency: "EUR", TotalCents: int64(100 + i), WorstMarginDB: fp(-1.5), MediaMix: "os2:2"})
+	}
+	rows = append(rows, Row{Index: len(rows), ID: "failed-1", Status: StatusFailed, Error: "=1+2 <b>bad</b>\n\u202Eevil"})
+	files, err := Compare(rows, []string{"hub"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	data := map[string][]byte{}
+	for _, f := range files {
+		data[f.Name] = f.Data
+	}
+	recs, err := csv.NewReader(bytes.NewReader(data[CompareCSV])).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	md := strings.Split(string(data[CompareMD]), "\n")
+	var table []string
+	for _, l := range md {
+		if strings.HasPrefix(l, "|") {
+			table = append(table, l)
+		}
+	}
+	if len(table) != len(rows)+2 {
+		t.Fatalf("compare.md: %d table lines, want %d:\n%s", len(table), len(rows)+2, data[CompareMD])
+	}
+	// GitHub Flavored Markdown 0.29 §4.10: a row's cells are split at pipes not escaped
+	borders := func(l string) int {
+		l = strings.ReplaceAll(l, `\\`, "")
+		return strings.Count(l, "|") - strings.Count(l, `\|`)
+	}
+	for i, p := range payloads {
+		t.Run(p.name, func(t *testing.T) {
+			rec := recs[i+1]
+			if rec[1] != p.csv || rec[2] != p.csv || rec[3] != p.csv {
+				t.Errorf("%s: compare.csv id, case, hub: got %q, want %q each", p.name, rec[1:4], p.csv)
+			}
+			if got := rec[len(rec)-9]; got != "-1.50" {
+				t.Errorf("%s: compare.csv worst margin: got %q, want the number -1.50", p.name, got)
+			}
+			line := table[i+2]
+			if borders(line) != borders(table[0]) {
+				t.Errorf("%s: compare.md row has %d cell borders, the head %d: %s", p.name, borders(line), borders(table[0]), line)
+			}
+			if !strings.Contains(line, " | "+p.md+" | "+p.md+" | ") {
+				t.Errorf("%s: compare.md row lacks the case and hub cells %q:\n%s", p.name, p.md, line)
+			}
+		})
+	}
+	if want := "- `failed-1`: \\=1+2 \\<b\\>bad\\</b\\>; \\<U+202E\\>evil\n"; !strings.Contains(string(data[CompareMD]), want) {
+		t.Errorf("compare.md failure list lacks %q:\n%s", want, data[CompareMD])
+	}
+
+	// compare.xlsx keeps each payload a string, never a formula (ECMA-376 Part 1 §18.3.1.4).
+	xl, err := workbook.Open(data[CompareXLSX])
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer xl.Close()
+	for i, p := range payloads {
+		for col := 1; col <= 3; col++ {
+			ref := workbook.Ref(col, i+2)
+			v, _ := xl.Value("scenarios", ref)
+			f, _ := xl.Formula("scenarios", ref)
+			if v != p.xlsx || f != "" {
+				t.Errorf("%s: compare.xlsx %s: got %q formula %q, want the text %q", p.name, ref, v, f, p.xlsx)
+			}
+		}
 	}
 }

@@ -21,13 +21,14 @@ import (
 	"spanwright/geo/input"
 	"spanwright/media"
 	"spanwright/route"
+	"spanwright/route/escape"
 )
 
 // Files every planned scenario folder holds besides the plan's outputs.
 const (
 	PlanFile    = "plan.yaml"     // the scenario's plan: the base plan with its overrides
 	InputsFile  = "inputs.sha256" // SHA-256 of the plan and of every file it reads
-	ErrorFile   = "error.txt"     // why the scenario failed; only in a failed scenario's folder
+	ErrorFile   = "error.txt"     // why the scenario failed (hidden characters shown); only in a failed scenario's folder
 	SummaryFile = "summary.json"  // the plan summary, read back by a resumed sweep
 )
 
@@ -401,7 +402,7 @@ func (r *runner) scenario(ctx context.Context, sc Scenario) (outcome, error) {
 		// Messages name the scenario's plan by its id, whatever the output folder, so the
 		// rows of shards written to different folders merge into the same bytes.
 		out.row.fail(errors.New(strings.ReplaceAll(err.Error(), dir+string(filepath.Separator), sc.ID+"/")))
-		out.files = []route.OutputFile{{Name: PlanFile, Data: planData}, {Name: ErrorFile, Data: []byte(out.row.Error + "\n")}}
+		out.files = []route.OutputFile{{Name: PlanFile, Data: planData}, {Name: ErrorFile, Data: []byte(escape.Visible(out.row.Error) + "\n")}}
 		return out, nil
 	}
 	p, err := route.ParsePlan(planPath, planData)
@@ -468,7 +469,7 @@ func (r *runner) planYAML(sc Scenario) ([]byte, error) {
 	root := doc.Content[0]
 	rebasePlanPaths(root, r.rebaseBase)
 	apply(root, sc.Set, r.rebaseSweep)
-	head := "scenario " + sc.ID + ": " + sc.Describe()
+	head := "scenario " + sc.ID + ": " + escape.Visible(sc.Describe()) // YAML comments allow no control characters
 	if b := builtIns(root); b != "" {
 		// Part of the plan's bytes, so a resumed sweep plans again when a new build changes
 		// the embedded files this scenario reads.
@@ -542,7 +543,7 @@ func cloneNode(n *yaml.Node) *yaml.Node {
 func (r *runner) inputsFile(p *route.Plan, planData []byte) ([]byte, error) {
 	var b bytes.Buffer
 	sum := sha256.Sum256(planData)
-	fmt.Fprintf(&b, "%s  %s\n", hex.EncodeToString(sum[:]), PlanFile)
+	b.WriteString(sumLine(hex.EncodeToString(sum[:]), PlanFile))
 	names := append([]string(nil), p.Campus...)
 	for _, f := range []string{p.Catalog, p.Rules, p.Prices} {
 		if f != "" {
@@ -554,9 +555,23 @@ func (r *runner) inputsFile(p *route.Plan, planData []byte) ([]byte, error) {
 		if err != nil {
 			return nil, err
 		}
-		fmt.Fprintf(&b, "%s  %s\n", h, n)
+		b.WriteString(sumLine(h, n))
 	}
 	return b.Bytes(), nil
+}
+
+// sumEscaper writes a file name as GNU sha256sum does when the name holds a backslash, line
+// feed or carriage return.
+var sumEscaper = strings.NewReplacer(`\`, `\\`, "\n", `\n`, "\r", `\r`)
+
+// sumLine is one line of a sha256sum file: "hash  name", or, as GNU coreutils writes a
+// name holding a backslash, line feed or carriage return, a backslash, the hash and the name
+// with those escaped, so a name can neither break the line nor add one.
+func sumLine(hash, name string) string {
+	if strings.ContainsAny(name, "\\\n\r") {
+		return `\` + hash + "  " + sumEscaper.Replace(name) + "\n"
+	}
+	return hash + "  " + name + "\n"
 }
 
 // resumable reports whether the scenario folder holds a finished plan of the same inputs, and

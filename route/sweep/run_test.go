@@ -104,8 +104,10 @@ func TestRunSameBytesWhateverJobs(t *testing.T) {
 	}
 }
 
-func TestInputsFileChecksWithSha256sum(t *testing.T) {
-	t.Parallel()
+// sha256sum returns the path of GNU sha256sum; it skips the test when there is none, except
+// in CI.
+func sha256sum(t *testing.T) string {
+	t.Helper()
 	path, err := exec.LookPath("sha256sum")
 	if err != nil {
 		if os.Getenv("CI") == "true" {
@@ -113,6 +115,12 @@ func TestInputsFileChecksWithSha256sum(t *testing.T) {
 		}
 		t.Skip("sha256sum (GNU coreutils) not installed")
 	}
+	return path
+}
+
+func TestInputsFileChecksWithSha256sum(t *testing.T) {
+	t.Parallel()
+	path := sha256sum(t)
 	f := load(t, "small.yaml")
 	dir := t.TempDir()
 	run(t, f, Options{Out: dir, Jobs: 2})
@@ -126,6 +134,47 @@ func TestInputsFileChecksWithSha256sum(t *testing.T) {
 	want := "plan.yaml: OK\n" + sc.ID // the campus line follows
 	if !strings.HasPrefix(string(out), "plan.yaml: OK\n") || strings.Count(string(out), ": OK") != 2 {
 		t.Errorf("sha256sum -c: got %q, want %q and the campus file OK", out, want[:14])
+	}
+}
+
+// TestSumLineOddNames writes inputs.sha256 lines for file names holding a line feed, a
+// carriage return or a backslash: GNU sha256sum must write the same lines and check them OK.
+func TestSumLineOddNames(t *testing.T) {
+	t.Parallel()
+	path := sha256sum(t)
+	// GNU coreutils manual, md5sum invocation: a name with a backslash or line feed is
+	// escaped and its line begins with a backslash; coreutils 9.1 (installed here) escapes a
+	// carriage return too; checked against the installed sha256sum itself
+	cases := []string{"plain.geojson", "a\nb.geojson", "c\\d.geojson", "e\rf.geojson", "g\nffff  injected"}
+	dir := t.TempDir()
+	var sums bytes.Buffer
+	for i, name := range cases {
+		data := []byte{byte('a' + i)}
+		if err := os.WriteFile(filepath.Join(dir, name), data, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		h := sha256.Sum256(data)
+		line := sumLine(hex.EncodeToString(h[:]), name)
+		sums.WriteString(line)
+		t.Run(name, func(t *testing.T) {
+			cmd := exec.Command(path, "--", name)
+			cmd.Dir = dir
+			out, err := cmd.Output()
+			if err != nil || string(out) != line {
+				t.Errorf("%q: got %q, sha256sum writes %q (%v)", name, line, out, err)
+			}
+			if strings.Count(line, "\n") != 1 {
+				t.Errorf("%q: %q is not one line", name, line)
+			}
+		})
+	}
+	if err := os.WriteFile(filepath.Join(dir, "inputs.sha256"), sums.Bytes(), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	cmd := exec.Command(path, "-c", "inputs.sha256")
+	cmd.Dir = dir
+	if out, err := cmd.CombinedOutput(); err != nil || strings.Count(string(out), ": OK") != len(cases) {
+		t.Errorf("sha256sum -c: %v\n%s", err, out)
 	}
 }
 

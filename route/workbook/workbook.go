@@ -15,6 +15,8 @@ import (
 	"unicode/utf8"
 
 	"github.com/xuri/excelize/v2"
+
+	"spanwright/route/escape"
 )
 
 // Column widths, in characters of the default font.
@@ -51,8 +53,11 @@ type Cell struct {
 // Blank returns an empty cell.
 func Blank() Cell { return Cell{} }
 
-// Text returns a text cell, stored as a string even when it looks like a number.
-func Text(s string) Cell { return Cell{kind: kindText, text: s} }
+// Text returns a text cell, stored as a string even when it looks like a number or a
+// formula ("=1+2" is the text =1+2, never calculated). Hidden characters (bidirectional
+// controls, other invisible format characters, control characters) are shown as their code
+// points, "<U+202E>", as in every output (see package escape).
+func Text(s string) Cell { return Cell{kind: kindText, text: escape.Visible(s)} }
 
 // Number returns a number cell shown with the given decimals (0 to MaxDecimals, or -1 for the
 // spreadsheet's general format); the value is stored at full precision. NaN and infinities
@@ -118,12 +123,13 @@ type Column struct {
 	Width float64
 }
 
-// Header returns the column's header text: the name, then the unit in parentheses.
+// Header returns the column's header text: the name, then the unit in parentheses, hidden
+// characters shown as Text shows them.
 func (c Column) Header() string {
 	if c.Unit == "" {
-		return c.Name
+		return escape.Visible(c.Name)
 	}
-	return c.Name + " (" + c.Unit + ")"
+	return escape.Visible(c.Name + " (" + c.Unit + ")")
 }
 
 // Sheet is one worksheet: a header row made from its columns, then its rows in the order

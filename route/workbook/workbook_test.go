@@ -33,9 +33,10 @@ func sample() *Workbook {
 	return w
 }
 
-func TestReadBack(t *testing.T) {
-	t.Parallel()
-	data, err := sample().Bytes()
+// reopen renders w and opens the bytes with excelize; the file is closed when the test ends.
+func reopen(t *testing.T, w *Workbook) *excelize.File {
+	t.Helper()
+	data, err := w.Bytes()
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -43,7 +44,13 @@ func TestReadBack(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	defer f.Close()
+	t.Cleanup(func() { f.Close() })
+	return f
+}
+
+func TestReadBack(t *testing.T) {
+	t.Parallel()
+	f := reopen(t, sample())
 	if got, want := f.GetSheetList(), []string{"links", "totals"}; strings.Join(got, ",") != strings.Join(want, ",") {
 		t.Fatalf("sheets: got %v, want %v", got, want)
 	}
@@ -131,10 +138,11 @@ func TestReadBack(t *testing.T) {
 	}
 }
 
-// TestOpenpyxl reads the workbook with openpyxl (Debian package python3-openpyxl), a reader
-// written independently of excelize.
-func TestOpenpyxl(t *testing.T) {
-	t.Parallel()
+// openpyxl saves w and runs the Python script on it with openpyxl (Debian package
+// python3-openpyxl), the file's path as its argument, and returns what the script printed.
+// It skips the test when openpyxl is missing, except in CI.
+func openpyxl(t *testing.T, w *Workbook, script string) string {
+	t.Helper()
 	py := "/usr/bin/python3"
 	if err := exec.Command(py, "-c", "import openpyxl").Run(); err != nil {
 		if os.Getenv("CI") == "true" {
@@ -142,15 +150,26 @@ func TestOpenpyxl(t *testing.T) {
 		}
 		t.Skip("python3-openpyxl not installed (apt-get install python3-openpyxl)")
 	}
-	path := filepath.Join(t.TempDir(), "sample.xlsx")
-	data, err := sample().Bytes()
+	path := filepath.Join(t.TempDir(), "book.xlsx")
+	data, err := w.Bytes()
 	if err != nil {
 		t.Fatal(err)
 	}
 	if err := os.WriteFile(path, data, 0o644); err != nil {
 		t.Fatal(err)
 	}
-	script := `import sys, openpyxl
+	out, err := exec.Command(py, "-c", script, path).CombinedOutput()
+	if err != nil {
+		t.Fatalf("openpyxl: %v\n%s", err, out)
+	}
+	return string(out)
+}
+
+// TestOpenpyxl reads the workbook with openpyxl (Debian package python3-openpyxl), a reader
+// written independently of excelize.
+func TestOpenpyxl(t *testing.T) {
+	t.Parallel()
+	out := openpyxl(t, sample(), `import sys, openpyxl
 wb = openpyxl.load_workbook(sys.argv[1])
 ws = wb["links"]
 print(wb.sheetnames)
@@ -159,11 +178,7 @@ for row in ws.iter_rows(min_row=1, max_row=3, values_only=True):
     print(repr(row))
 print(ws["D2"].number_format, ws["B2"].number_format)
 print(wb["totals"]["B3"].value)
-`
-	out, err := exec.Command(py, "-c", script, path).CombinedOutput()
-	if err != nil {
-		t.Fatalf("openpyxl: %v\n%s", err, out)
-	}
+`)
 	want := `['links', 'totals']
 A2 $A$1:$F$4
 ('link', 'length (m)', 'strands', 'cost (EUR)', 'feasible', 'note')
@@ -172,7 +187,7 @@ A2 $A$1:$F$4
 0.00 0.0
 =SUM('links'!$D$2:$D$4)
 `
-	if string(out) != want {
+	if out != want {
 		t.Errorf("openpyxl read:\n%s\nwant:\n%s", out, want)
 	}
 }
@@ -273,5 +288,72 @@ func TestNonFiniteIsBlank(t *testing.T) {
 		if c := Number(x, 1); c.kind != kindBlank {
 			t.Errorf("Number(%g): got kind %d, want blank", x, c.kind)
 		}
+	}
+}
+
+// payloadCells are text cells a spreadsheet would run as formulas if they were stored as
+// formulas, or that hold characters that reorder or hide text.
+var payloadCells = []struct {
+	name, text, stored string
+}{
+	// OWASP CSV injection guidance: = + - @ start a formula when typed or imported as CSV
+	{"equals", `=HYPERLINK("http://x","y")`, `=HYPERLINK("http://x","y")`},
+	{"plus", "+1+2", "+1+2"},
+	{"minus", "-2+3", "-2+3"},
+	{"at", "@SUM(A1:A9)", "@SUM(A1:A9)"},
+	{"DDE", "=cmd|' /C calc'!A0", "=cmd|' /C calc'!A0"},
+	// Unicode TR #9 / CVE-2021-42574 (Trojan Source) for bidi controls
+	{"bidi override", "B\u202E1", "B<U+202E>1"},
+	// ECMA-48 control functions
+	{"escape", "\x1b[31mx", "<U+001B>[31mx"},
+}
+
+func payloadBook() *Workbook {
+	w := New()
+	s := w.AddSheet("cells", Column{Name: "text"}, Column{Name: "=1+\u202E2"})
+	for _, c := range payloadCells {
+		s.Append(Text(c.text))
+	}
+	return w
+}
+
+// TestTextNeverFormula stores formula-like and bidi text with Text: each cell must be an
+// inline string holding the text (with hidden characters shown), with no formula, as excelize
+// reads it back.
+func TestTextNeverFormula(t *testing.T) {
+	t.Parallel()
+	f := reopen(t, payloadBook())
+	for i, c := range payloadCells {
+		ref := Ref(0, i+2)
+		typ, _ := f.GetCellType("cells", ref)
+		raw, _ := f.GetCellValue("cells", ref, excelize.Options{RawCellValue: true})
+		formula, _ := f.GetCellFormula("cells", ref)
+		// ECMA-376 Part 1 §18.3.1.4: t="inlineStr" is a string, f is a formula
+		if typ != excelize.CellTypeInlineString || raw != c.stored || formula != "" {
+			t.Errorf("%s: got type %v value %q formula %q, want an inline string %q and no formula", c.name, typ, raw, formula, c.stored)
+		}
+	}
+	if h, _ := f.GetCellValue("cells", "B1"); h != "=1+<U+202E>2" {
+		t.Errorf("header: got %q, want =1+<U+202E>2", h)
+	}
+}
+
+// TestTextNeverFormulaOpenpyxl reads the same workbook with openpyxl (python3-openpyxl), a
+// reader written independently of excelize: every cell has data type "s" (string), not "f".
+func TestTextNeverFormulaOpenpyxl(t *testing.T) {
+	t.Parallel()
+	out := openpyxl(t, payloadBook(), `import sys, openpyxl
+ws = openpyxl.load_workbook(sys.argv[1])["cells"]
+for row in ws.iter_rows(min_row=1):
+    for c in row:
+        print(c.data_type, c.value)
+`)
+	var want strings.Builder
+	want.WriteString("s text\ns =1+<U+202E>2\n")
+	for _, c := range payloadCells {
+		want.WriteString("s " + c.stored + "\nn None\n")
+	}
+	if out != want.String() {
+		t.Errorf("openpyxl read:\n%s\nwant:\n%s", out, want.String())
 	}
 }
