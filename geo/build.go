@@ -597,13 +597,31 @@ func (b *builder) planAccess() {
 		}
 		lo, hi = f.lo.sub(vec{b.maxLat, b.maxLat}), f.hi.add(vec{b.maxLat, b.maxLat})
 		b.buf = b.segGrid.query(lo, hi, b.buf)
-		best := place{seg: -1}
+		// The nearest pathway decides how far the lateral must reach; where it joins is the
+		// point of the pathways about as near (within lateralTieM) closest to the footprint's
+		// centre. A footprint edge parallel to a pathway is equally near all along it, and the
+		// nearest point alone would jump from one end of the edge to the other when a vertex
+		// moves by a millimetre.
+		dMin := math.Inf(1)
 		for _, s := range b.buf {
 			sr := b.segs[s]
 			p := &b.parts[sr.part]
-			d, t := f.segDist(p.xy[sr.i], p.xy[sr.i+1])
-			if c := (place{seg: int(s), t: t, d: d}); b.better(c, best) {
-				best = c
+			d, _ := f.segDist(p.xy[sr.i], p.xy[sr.i+1])
+			dMin = min(dMin, d)
+		}
+		centre := lerp(f.lo, f.hi, 0.5)
+		best := place{seg: -1}
+		bestC := math.Inf(1)
+		for _, s := range b.buf {
+			sr := b.segs[s]
+			p := &b.parts[sr.part]
+			if d, _ := f.segDist(p.xy[sr.i], p.xy[sr.i+1]); d > dMin+lateralTieM {
+				continue
+			}
+			t, c2 := closestOnSeg(centre, p.xy[sr.i], p.xy[sr.i+1])
+			c := place{seg: int(s), t: t, d: f.distTo(lerp(p.xy[sr.i], p.xy[sr.i+1], t))}
+			if cd := math.Round(math.Sqrt(c2) * 1000); best.seg < 0 || cd < bestC || (cd == bestC && b.better(c, best)) {
+				best, bestC = c, cd
 			}
 		}
 		if best.seg < 0 || best.d > b.maxLat {

@@ -528,3 +528,31 @@ func TestParseThenBuild(t *testing.T) {
 		t.Errorf("span properties: got %+v", s)
 	}
 }
+
+// TestLateralBesideParallelEdge: a building whose edge runs parallel to a pathway is equally
+// near the pathway all along the edge; its lateral joins the pathway opposite the building's
+// centre, and tilting the pathway by a millimetre either way moves the join by millimetres,
+// not from one end of the edge to the other.
+func TestLateralBesideParallelEdge(t *testing.T) {
+	t.Parallel()
+	join := func(tiltM float64) orb.Point {
+		c := &Campus{Buildings: []Building{box("B", 50, 20, 10)},
+			Pathways: []Pathway{pw("P", ml(0, 0, 100, tiltM))}}
+		n := build(t, c)
+		for _, a := range n.Access {
+			j, _ := n.Junction(a.Junction)
+			return j.Point
+		}
+		t.Fatal("no access")
+		return orb.Point{}
+	}
+	flat := join(0)
+	for _, tilt := range []float64{-0.001, 0.001} {
+		if d := DistanceM(flat, join(tilt)); d > 0.01 {
+			t.Errorf("tilt %+g m: the lateral's join moved %.3f m", tilt, d)
+		}
+	}
+	if d := DistanceM(flat, at(50, 0)); d > 0.01 {
+		t.Errorf("the lateral joins %.3f m from the point opposite the centre", d)
+	}
+}

@@ -153,6 +153,20 @@ func (f *footprint) nearestBoundary(p vec) (orb.Point, float64) {
 	return bestLL, math.Sqrt(best)
 }
 
+// distTo is the distance in projected metres from p to the footprint, 0 inside it.
+func (f *footprint) distTo(p vec) float64 {
+	if f.contains(p) {
+		return 0
+	}
+	_, d := f.nearestBoundary(p)
+	return d
+}
+
+// lateralTieM is how much farther than the nearest pathway another place may be and still
+// count as as near, when a building is reached by a counted lateral (modelling choice:
+// a metre is well inside what a survey of a lateral's route can tell apart).
+const lateralTieM = 1.0
+
 // segDist returns the distance in projected metres from segment ab to the footprint (0 when
 // the segment reaches inside it), and the parameter along ab of the nearest point.
 func (f *footprint) segDist(a, b vec) (d, t float64) {
