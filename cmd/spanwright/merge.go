@@ -37,18 +37,13 @@ func mergeCommand() *cli.Command {
 }
 
 func runMerge(_ context.Context, dirs []string, out string, w io.Writer) error {
-	rep, err := sweep.Merge(dirs, out)
+	rep, err := sweep.Merge(dirs, out, report.SweepFiles(report.SweepOptions{}))
 	if errors.Is(err, sweep.ErrMerge) {
 		return invalid{err}
 	}
 	if err != nil {
 		return err
 	}
-	more, err := sweep.CompareExtra(out, report.SweepFiles(report.SweepOptions{}))
-	if err != nil {
-		return err
-	}
-	rep.Files = append(rep.Files, more...)
 	sort.Strings(rep.Files)
 	printReport(w, rep, sweep.Shard{})
 	return outcome(rep)

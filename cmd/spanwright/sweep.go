@@ -103,7 +103,8 @@ func runSweep(ctx context.Context, o sweepOptions, stdout, stderr io.Writer) err
 		defer debug.SetGCPercent(debug.SetGCPercent(sweepGCPercent))
 	}
 	prog := newProgress(stderr, o.quiet)
-	so := sweep.Options{Out: o.out, Jobs: o.jobs, Resume: o.resume, Shard: o.shard, Write: o.write, Progress: prog.update}
+	so := sweep.Options{Out: o.out, Jobs: o.jobs, Resume: o.resume, Shard: o.shard, Write: o.write, Progress: prog.update,
+		Compare: report.SweepFiles(report.SweepOptions{})}
 	if o.full {
 		so.Extra = report.Extra(report.Options{Units: o.write.Units})
 	}
@@ -112,14 +113,7 @@ func runSweep(ctx context.Context, o sweepOptions, stdout, stderr io.Writer) err
 	if err != nil {
 		return err
 	}
-	if o.shard.Whole() {
-		more, err := sweep.CompareExtra(o.out, report.SweepFiles(report.SweepOptions{}))
-		if err != nil {
-			return err
-		}
-		rep.Files = append(rep.Files, more...)
-		sort.Strings(rep.Files)
-	}
+	sort.Strings(rep.Files)
 	printReport(stdout, rep, o.shard)
 	return outcome(rep)
 }

@@ -7,6 +7,7 @@ import (
 	"encoding/hex"
 	"encoding/json"
 	"fmt"
+	"io"
 	"os"
 	"path/filepath"
 	"sort"
@@ -141,7 +142,13 @@ func readRows(path string) (rowsHeader, []Row, error) {
 		return h, nil, err
 	}
 	defer f.Close()
-	sc := bufio.NewScanner(f)
+	return decodeRows(path, f)
+}
+
+// decodeRows reads a rows file from r; path names it in errors.
+func decodeRows(path string, r io.Reader) (rowsHeader, []Row, error) {
+	var h rowsHeader
+	sc := bufio.NewScanner(r)
 	sc.Buffer(make([]byte, 0, 64<<10), 16<<20)
 	var rows []Row
 	line := 0
