@@ -70,6 +70,9 @@ func hook(step, path string) error {
 // errNoExchange says the system cannot exchange two folders in one step.
 var errNoExchange = errors.New("folder exchange not supported")
 
+// exchange swaps two folders in one step; a variable so that tests take the portable path.
+var exchange = exchangeFolders
+
 // Names of the temporary things the writers leave only when killed; the next run removes
 // those of processes no longer running. Each starts with ourPrefix.
 const (

@@ -6,9 +6,9 @@ import (
 	"golang.org/x/sys/unix"
 )
 
-// exchange swaps the folders a and b in one step (renameat2 RENAME_EXCHANGE, Linux 3.15 and
+// exchangeFolders swaps the folders a and b in one step (renameat2 RENAME_EXCHANGE, Linux 3.15 and
 // later); errNoExchange when the kernel or the file system cannot.
-func exchange(a, b string) error {
+func exchangeFolders(a, b string) error {
 	err := unix.Renameat2(unix.AT_FDCWD, a, unix.AT_FDCWD, b, unix.RENAME_EXCHANGE)
 	if errors.Is(err, unix.ENOSYS) || errors.Is(err, unix.EINVAL) || errors.Is(err, unix.ENOTSUP) {
 		return errNoExchange

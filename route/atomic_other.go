@@ -2,5 +2,5 @@
 
 package route
 
-// exchange is not available outside Linux: WriteFiles switches folders with two renames.
-func exchange(a, b string) error { return errNoExchange }
+// exchangeFolders is not available outside Linux: WriteFiles switches folders with two renames.
+func exchangeFolders(a, b string) error { return errNoExchange }

@@ -603,9 +603,13 @@ func (r *runner) resumable(dir string, inputs []byte) (route.Summary, bool) {
 // Failures are *route.OutputError naming the scenario folder.
 func (r *runner) publish(id string, files []route.OutputFile) error {
 	final := filepath.Join(r.out, id)
+	var tmp string
 	fail := func(err error) error {
 		var oe *route.OutputError
 		if errors.As(err, &oe) {
+			if rest, ok := strings.CutPrefix(oe.Path, tmp); ok && tmp != "" {
+				oe.Path = final + rest // name the place the user knows, not the temporary folder
+			}
 			return fmt.Errorf("scenario %s: %w", id, err)
 		}
 		return fmt.Errorf("scenario %s: %w", id, &route.OutputError{Path: final, Err: err})
