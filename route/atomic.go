@@ -94,8 +94,11 @@ const (
 // writing nothing, with an error wrapping ErrOutFolder. It refuses likewise, wrapping
 // ErrOverwrite, when an output would be one of the files in protect (the run's inputs),
 // comparing file identity, not path text. dir may be reached through a symbolic link: the
-// folder it points to is replaced. When dir is a mount point, or its parent folder cannot be
-// written, the files are written into dir itself as CommitFiles does.
+// folder it points to is replaced. When dir is a mount point, its parent folder cannot be
+// written, or it is the working folder (where the shell that started us most likely is: a
+// replaced folder would leave that shell in the old one), the files are written into dir
+// itself as CommitFiles does. Any other program whose working folder is dir keeps seeing the
+// old folder, emptied, until it changes folder again.
 //
 // Leftovers of a killed run (its hidden folders beside dir) are removed, or restored when
 // dir itself went missing, before anything is written. Failures to write (a full disk, a
@@ -129,6 +132,11 @@ func WriteFiles(dir string, files []OutputFile, protect []string) error {
 		}
 		mode = info.Mode().Perm()
 		if pinfo, err := os.Stat(parent); err != nil || !sameDevice(info, pinfo) {
+			return CommitFiles(real, files, protect)
+		}
+		if wd, err := os.Stat("."); err == nil && os.SameFile(wd, info) {
+			// The shell that started us is most likely in dir: replacing the folder would
+			// leave it in the old one, empty, and relative paths typed there would fail.
 			return CommitFiles(real, files, protect)
 		}
 		if err := RecoverFiles(real); err != nil {

@@ -341,3 +341,21 @@ func TestCommitFilesOneSet(t *testing.T) {
 	wholeSet(t, out, "new")
 	noLeftovers(t, out)
 }
+
+// TestWriteFilesIntoWorkingFolder: --out naming the working folder is written in place (with
+// CommitFiles' journal), so the shell in it does not stay behind in a replaced folder.
+func TestWriteFilesIntoWorkingFolder(t *testing.T) {
+	dir := t.TempDir()
+	t.Chdir(dir)
+	before, _ := os.Stat(".")
+	for _, tag := range []string{"old", "new"} {
+		if err := WriteFiles(".", outputSet(tag), nil); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if after, err := os.Stat(dir); err != nil || !os.SameFile(before, after) {
+		t.Errorf("the working folder was replaced: %v", err)
+	}
+	wholeSet(t, dir, "new")
+	noLeftovers(t, dir)
+}

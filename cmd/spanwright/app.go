@@ -50,7 +50,9 @@ func exitCode(err error) int {
 	case errors.Is(err, route.ErrOverwrite), errors.Is(err, route.ErrOutFolder):
 		// The command as given can never succeed: its --out holds what it must not replace.
 		return exitInvalid
-	case errors.As(err, &oe):
+	case errors.As(err, &oe), environmental(err):
+		// Before the input checks: an input that cannot be read for lack of permission or
+		// an I/O error is the machine's fault, whatever loader reports it.
 		return exitEnvironment
 	case errors.As(err, &ue), errors.As(err, &fe), errors.As(err, &gl), errors.As(err, &pe), errors.As(err, &rl),
 		errors.As(err, &mf), errors.As(err, &ml), errors.Is(err, media.ErrMissingPrice),
@@ -58,8 +60,6 @@ func exitCode(err error) int {
 		strings.HasPrefix(err.Error(), "Required flag"), strings.HasPrefix(err.Error(), "flag provided but not defined"):
 		// urfave/cli reports missing required flags as plain errors; they are usage mistakes.
 		return exitInvalid
-	case environmental(err):
-		return exitEnvironment
 	}
 	return exitInternal
 }

@@ -135,6 +135,13 @@ func TestExitStatusEnvironment(t *testing.T) {
 			t.Errorf("%s: status %d, %q; want %d, %q", tc.name, code, msg, tc.code, tc.want)
 		}
 	}
+	// An input the loader cannot open: missing is the user's mistake, unreadable the machine's.
+	for errno, want := range map[syscall.Errno]int{syscall.ENOENT: exitInvalid, syscall.EACCES: exitEnvironment, syscall.EIO: exitEnvironment} {
+		err := &route.PlanError{File: "p.yaml", Err: &fs.PathError{Op: "open", Path: "p.yaml", Err: errno}}
+		if code := exitCode(err); code != want {
+			t.Errorf("plan file %v: status %d, want %d", errno, code, want)
+		}
+	}
 	if code := exitCode(errors.New("index out of range")); code != exitInternal {
 		t.Errorf("an unclassified error: status %d, want %d", code, exitInternal)
 	}

@@ -3,7 +3,10 @@ package sweep
 import (
 	"context"
 	"errors"
+	"fmt"
+	"io/fs"
 	"os"
+	"os/exec"
 	"path/filepath"
 	"strings"
 	"syscall"
@@ -139,6 +142,67 @@ func TestComparisonDiskFull(t *testing.T) {
 			if got := listing(); got != wantListing {
 				t.Errorf("merge=%v, file %d failing: folder holds\n%s\nwant\n%s", merge, n, got, wantListing)
 			}
+		}
+	}
+}
+
+// TestKilledComparisonRolledForward leaves what a sweep killed while renaming its comparison
+// into place leaves (a journal marked whole, two files already moved) and checks that the
+// next sweep finishes it before anything else and leaves no journal; and that a journal not
+// marked whole is dropped, the previous comparison kept.
+func TestKilledComparisonRolledForward(t *testing.T) {
+	f := load(t, "small.yaml")
+	out := t.TempDir()
+	if _, err := Run(context.Background(), f, Options{Out: out, Jobs: 2, Compare: reportTagged("old")}); err != nil {
+		t.Fatal(err)
+	}
+	cmd := exec.Command(os.Args[0], "-test.run=^$")
+	if err := cmd.Run(); err != nil {
+		t.Fatal(err)
+	}
+	dead := cmd.Process.Pid
+	for _, marked := range []bool{true, false} {
+		stage := filepath.Join(out, fmt.Sprintf(".spanwright-stage-%d-%d", dead, map[bool]int{true: 1, false: 2}[marked]))
+		if err := os.Mkdir(stage, 0o755); err != nil {
+			t.Fatal(err)
+		}
+		for _, n := range comparisonFiles {
+			if err := os.WriteFile(filepath.Join(stage, n), []byte("killed "+n), 0o644); err != nil {
+				t.Fatal(err)
+			}
+		}
+		if marked {
+			os.WriteFile(filepath.Join(stage, ".commit"), nil, 0o644)
+			for _, n := range comparisonFiles[:2] {
+				if err := os.Rename(filepath.Join(stage, n), filepath.Join(out, n)); err != nil {
+					t.Fatal(err)
+				}
+			}
+		}
+		var steps []string
+		route.WriteHook = func(step, path string) error {
+			if filepath.Dir(path) == out && step == "rename" && !strings.Contains(strings.Join(steps, ","), "commit") {
+				steps = append(steps, "recovered "+filepath.Base(path))
+			}
+			if filepath.Dir(path) == out || path == out {
+				steps = append(steps, step)
+			}
+			return nil
+		}
+		_, err := Run(context.Background(), f, Options{Out: out, Jobs: 2, Resume: true, Compare: reportTagged("new")})
+		route.WriteHook = nil
+		if err != nil {
+			t.Fatal(err)
+		}
+		recovered := strings.Count(strings.Join(steps, ","), "recovered ")
+		if want := map[bool]int{true: len(comparisonFiles) - 2, false: 0}[marked]; recovered != want {
+			t.Errorf("marked=%v: %d files rolled forward before the run's own set, want %d (%v)", marked, recovered, want, steps)
+		}
+		if got, _ := os.ReadFile(filepath.Join(out, "compare.html")); string(got) != "new" {
+			t.Errorf("marked=%v: compare.html holds %q after the next run", marked, got)
+		}
+		if _, err := os.Stat(stage); !errors.Is(err, fs.ErrNotExist) {
+			t.Errorf("marked=%v: the journal is still there: %v", marked, err)
 		}
 	}
 }

@@ -166,7 +166,10 @@ func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
 	if err != nil {
 		return rep, err
 	}
-	if err := route.CommitFiles(opt.Out, files, r.protect); err != nil {
+	// Never replace the sweep file, the base plan or any file a scenario read (the hash
+	// cache holds every one, by absolute path).
+	protect := append(append([]string(nil), r.protect...), r.hashes.c.Keys()...)
+	if err := route.CommitFiles(opt.Out, files, protect); err != nil {
 		return rep, err
 	}
 	for _, o := range files {
