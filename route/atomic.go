@@ -125,12 +125,13 @@ func WriteFiles(dir string, files []OutputFile, protect []string) error {
 	}
 	mode := fs.FileMode(0o755)
 	var keep []string
+	var oldInfo fs.FileInfo
 	if exists {
 		info, err := os.Stat(real)
 		if err != nil {
 			return outErr(real, err)
 		}
-		mode = info.Mode().Perm()
+		mode, oldInfo = info.Mode().Perm(), info
 		if pinfo, err := os.Stat(parent); err != nil || !sameDevice(info, pinfo) {
 			return CommitFiles(real, files, protect)
 		}
@@ -159,6 +160,9 @@ func WriteFiles(dir string, files []OutputFile, protect []string) error {
 	}
 	if err := os.Chmod(tmp, mode); err != nil {
 		return fail(outErr(real, err))
+	}
+	if oldInfo != nil {
+		copyOwner(tmp, oldInfo)
 	}
 	if err := writeAll(tmp, real, sorted); err != nil {
 		return fail(err)

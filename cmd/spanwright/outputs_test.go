@@ -40,7 +40,6 @@ func inputFolder(t *testing.T, campus string) (string, string) {
 // folder, or hard-linked into --out under an output's name, is refused with status 2 and left
 // as it was. Both replaced the input before the guard compared file identity.
 func TestOverwriteGuardByIdentity(t *testing.T) {
-	t.Parallel()
 	dir, plan := inputFolder(t, "routes.geojson")
 	campus := filepath.Join(dir, "routes.geojson")
 	want, _ := os.ReadFile(campus)
@@ -69,7 +68,6 @@ func TestOverwriteGuardByIdentity(t *testing.T) {
 // TestOutFolderHoldingInputs: --out naming the folder of the plan's inputs keeps them, the
 // same files (inode and bytes), beside the outputs; a sub-folder there is refused (status 2).
 func TestOutFolderHoldingInputs(t *testing.T) {
-	t.Parallel()
 	dir, plan := inputFolder(t, "campus.geojson")
 	before, _ := os.Stat(filepath.Join(dir, "campus.geojson"))
 	if _, msg, code := run(t, "plan", plan, "--out", dir); code != exitOK {
