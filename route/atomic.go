@@ -54,7 +54,8 @@ func cause(err error) error {
 }
 
 // WriteHook, when not nil, is called before each step of writing outputs ("write" a file,
-// "commit" a journal, "rename" a committed file, "switch" folders, "remove" the old folder)
+// "link" a file kept from the old folder, "switch" folders, "remove" the old folder, "commit"
+// a journal, "rename" a committed file)
 // with the final path concerned; an error it returns fails the step as the system's error
 // would. Only tests set it: to fail the Nth file as a full disk does, or to widen the window
 // in which a killed run is caught half way.
