@@ -6,6 +6,7 @@ import (
 	"io"
 	"io/fs"
 	"strings"
+	"syscall"
 
 	"github.com/urfave/cli/v2"
 
@@ -15,12 +16,13 @@ import (
 	"spanwright/route"
 )
 
-// Exit statuses.
+// Exit statuses. 130 and 143 (stopped by a signal) are set by main.
 const (
-	exitOK         = 0
-	exitInternal   = 1
-	exitInvalid    = 2
-	exitInfeasible = 3
+	exitOK          = 0
+	exitInternal    = 1 // a bug in spanwright
+	exitInvalid     = 2 // invalid input or usage, an output that would overwrite an input
+	exitInfeasible  = 3 // finished, but some links are infeasible
+	exitEnvironment = 4 // the machine refused: an output could not be written, a file not read
 )
 
 // usageError marks a mistake in the command line.
@@ -40,11 +42,19 @@ func exitCode(err error) int {
 	var rl *route.ErrorList
 	var mf *media.FileError
 	var ml *media.ErrorList
+	var oe *route.OutputError
 	switch {
 	case err == nil:
 		return exitOK
 	case errors.Is(err, route.ErrInfeasible):
 		return exitInfeasible
+	case errors.Is(err, route.ErrOverwrite), errors.Is(err, route.ErrOutFolder):
+		// The command as given can never succeed: its --out holds what it must not replace.
+		return exitInvalid
+	case errors.As(err, &oe), environmental(err):
+		// Before the input checks: an input that cannot be read for lack of permission or
+		// an I/O error is the machine's fault, whatever loader reports it.
+		return exitEnvironment
 	case errors.As(err, &ue), errors.As(err, &fe), errors.As(err, &gl), errors.As(err, &pe), errors.As(err, &rl),
 		errors.As(err, &mf), errors.As(err, &ml), errors.Is(err, media.ErrMissingPrice),
 		errors.Is(err, errInvalid), errors.Is(err, fs.ErrNotExist),
@@ -53,6 +63,21 @@ func exitCode(err error) int {
 		return exitInvalid
 	}
 	return exitInternal
+}
+
+// environmental reports whether err comes from the machine rather than from spanwright or
+// its input: a full disk or quota, a missing permission, a read-only file system, an I/O
+// error, too many open files. A retry may succeed once the machine is put right.
+func environmental(err error) bool {
+	if errors.Is(err, fs.ErrPermission) {
+		return true
+	}
+	for _, e := range []syscall.Errno{syscall.ENOSPC, syscall.EDQUOT, syscall.EROFS, syscall.EIO, syscall.EMFILE, syscall.ENFILE, syscall.EFBIG} {
+		if errors.Is(err, e) {
+			return true
+		}
+	}
+	return false
 }
 
 // errInvalid marks other invalid input found by a command.
@@ -64,13 +89,23 @@ func newApp() *cli.App {
 		Usage: "plan campus network backbones: routes, media, loss budgets and costs",
 		Description: "Reads a campus as GeoJSON and a plan as YAML, routes every backbone link over the\n" +
 			"pathway network, chooses its medium, checks loss budgets and writes the results.\n\n" +
-			"EXIT STATUS\n   0 done, 1 internal error, 2 invalid input or usage, 3 plan finished but some links are infeasible.",
+			"EXIT STATUS\n   0 done; 1 internal error (a bug: please report it); 2 invalid input or usage (an unknown\n" +
+			"   command, a bad flag, an invalid file, an output that would overwrite an input or an --out\n" +
+			"   folder holding a sub-folder); 3 plan finished but some links are infeasible; 4 the machine\n" +
+			"   refused: an output could not be written (disk full, no permission, --out names a file) or\n" +
+			"   an input not read (no permission, I/O error); 130 stopped by Ctrl-C, 143 by SIGTERM.",
 		Commands: []*cli.Command{
 			checkCommand(),
 			planCommand(),
 			demoCommand(),
 			mediaCommand(),
 			sweepCommand(), mergeCommand(),
+		},
+		Action: func(c *cli.Context) error {
+			if c.NArg() > 0 {
+				return usageError{fmt.Errorf("unknown command %q; the commands are check, plan, demo, media, sweep and merge (spanwright --help)", c.Args().First())}
+			}
+			return cli.ShowAppHelp(c)
 		},
 		OnUsageError:    onUsageError,
 		HideHelpCommand: true,

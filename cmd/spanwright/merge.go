@@ -19,11 +19,12 @@ func mergeCommand() *cli.Command {
 		Usage:     "join the output folders of a sharded sweep into one comparison",
 		ArgsUsage: "DIR...",
 		Description: "Reads the rows files (rows.jsonl, rows-i-of-n.jsonl) of every folder named and\n" +
-			"writes compare.csv, compare.xlsx, compare.md, compare.html and rows.jsonl to --out, the same bytes\n" +
-			"as the unsharded sweep writes. Scenario folders stay where the shards wrote them.\n\n" +
-			"EXIT STATUS\n   0 every scenario planned with all legs feasible, 1 internal error,\n" +
+			"writes compare.csv, compare.xlsx, compare.md, compare.html and rows.jsonl to --out as one set,\n" +
+			"the same bytes as the unsharded sweep writes. Scenario folders stay where the shards wrote them.\n\n" +
+			"EXIT STATUS\n   0 every scenario planned with all legs feasible, 1 internal error (a bug),\n" +
 			"   2 the rows do not make one whole sweep (missing shards, different sweeps) or some\n" +
-			"   scenario failed, 3 some scenario has infeasible legs.",
+			"   scenario failed, 3 some scenario has infeasible legs, 4 the comparison could not be\n" +
+			"   written (disk full, no permission, --out names a file).",
 		Flags: []cli.Flag{
 			&cli.PathFlag{Name: "out", Usage: "output folder for the comparison", Required: true, TakesFile: true},
 		},
@@ -37,18 +38,13 @@ func mergeCommand() *cli.Command {
 }
 
 func runMerge(_ context.Context, dirs []string, out string, w io.Writer) error {
-	rep, err := sweep.Merge(dirs, out)
+	rep, err := sweep.Merge(dirs, out, report.SweepFiles(report.SweepOptions{}))
 	if errors.Is(err, sweep.ErrMerge) {
 		return invalid{err}
 	}
 	if err != nil {
 		return err
 	}
-	more, err := sweep.CompareExtra(out, report.SweepFiles(report.SweepOptions{}))
-	if err != nil {
-		return err
-	}
-	rep.Files = append(rep.Files, more...)
 	sort.Strings(rep.Files)
 	printReport(w, rep, sweep.Shard{})
 	return outcome(rep)

@@ -10,12 +10,19 @@ import (
 	"syscall"
 	"testing"
 	"time"
+
+	"spanwright/route"
 )
 
 // TestMain lets a test run the real main, signal handling included, in a child process: the
-// test binary runs main when SPANWRIGHT_AS_MAIN is set, with its arguments as the command line.
+// test binary runs main when SPANWRIGHT_AS_MAIN is set, with its arguments as the command line
+// (and, when SPANWRIGHT_STEP_DELAY holds a duration, a pause before each step of writing).
 func TestMain(m *testing.M) {
 	if os.Getenv("SPANWRIGHT_AS_MAIN") == "1" {
+		if d, err := time.ParseDuration(os.Getenv("SPANWRIGHT_STEP_DELAY")); err == nil {
+			// Widen the window in which a kill finds the outputs half written.
+			route.WriteHook = func(string, string) error { time.Sleep(d); return nil }
+		}
 		os.Args = append([]string{"spanwright"}, os.Args[1:]...)
 		main()
 		return

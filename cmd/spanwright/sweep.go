@@ -35,9 +35,10 @@ func sweepCommand() *cli.Command {
 			"scenario's plan.yaml writes its full set later.\n\n" +
 			"With --shard i/n only the scenarios whose index mod n is i-1 are planned and their\n" +
 			"rows written to OUT/rows-i-of-n.jsonl; `spanwright merge` joins the shards.\n\n" +
-			"EXIT STATUS\n   0 every scenario planned with all legs feasible, 1 internal error or interrupted,\n" +
+			"EXIT STATUS\n   0 every scenario planned with all legs feasible, 1 internal error (a bug),\n" +
 			"   2 the sweep file is invalid or some scenario failed (the others are still written),\n" +
-			"   3 some scenario has infeasible legs.",
+			"   3 some scenario has infeasible legs, 4 an output could not be written (disk full, no\n" +
+			"   permission, --out names a file; resume once put right), 130/143 stopped by a signal.",
 		Flags: []cli.Flag{
 			&cli.PathFlag{Name: "out", Usage: "output folder", Required: true, TakesFile: true},
 			&cli.IntFlag{Name: "jobs", Value: runtime.NumCPU(), Usage: "scenarios planned at once"},
@@ -110,7 +111,8 @@ func runSweep(ctx context.Context, o sweepOptions, stdout, stderr io.Writer) err
 		defer debug.SetGCPercent(debug.SetGCPercent(sweepGCPercent))
 	}
 	prog := newProgress(stderr, o.quiet)
-	so := sweep.Options{Out: o.out, Jobs: o.jobs, Resume: o.resume, Shard: o.shard, Write: o.write, Progress: prog.update}
+	so := sweep.Options{Out: o.out, Jobs: o.jobs, Resume: o.resume, Shard: o.shard, Write: o.write, Progress: prog.update,
+		Compare: report.SweepFiles(report.SweepOptions{})}
 	if o.full {
 		so.Extra = report.Extra(report.Options{Units: o.write.Units})
 	}
@@ -119,14 +121,7 @@ func runSweep(ctx context.Context, o sweepOptions, stdout, stderr io.Writer) err
 	if err != nil {
 		return err
 	}
-	if o.shard.Whole() {
-		more, err := sweep.CompareExtra(o.out, report.SweepFiles(report.SweepOptions{}))
-		if err != nil {
-			return err
-		}
-		rep.Files = append(rep.Files, more...)
-		sort.Strings(rep.Files)
-	}
+	sort.Strings(rep.Files)
 	printReport(stdout, rep, o.shard)
 	return outcome(rep)
 }

@@ -89,7 +89,7 @@ func Sweep(c *sweep.Comparison, opt SweepOptions) ([]byte, error) {
 }
 
 // SweepFiles renders the sweep report as the output file SweepFileName; it suits
-// sweep.CompareExtra.
+// sweep.Options.Compare and sweep.Merge.
 func SweepFiles(opt SweepOptions) sweep.CompareFunc {
 	return func(c *sweep.Comparison) ([]route.OutputFile, error) {
 		data, err := Sweep(c, opt)

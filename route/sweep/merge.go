@@ -3,6 +3,7 @@ package sweep
 import (
 	"errors"
 	"fmt"
+	"os"
 	"path/filepath"
 	"reflect"
 	"strings"
@@ -15,11 +16,13 @@ var ErrMerge = errors.New("merge")
 
 // Merge joins the rows files found in dirs (each the output folder of one or more shards of a
 // sweep, or of a whole sweep) into one comparison written to out: the same compare.csv,
-// compare.xlsx, compare.md and rows.jsonl, byte for byte, as the unsharded sweep writes.
+// compare.xlsx, compare.md, rows.jsonl and more's files (when more is not nil), byte for
+// byte, as the unsharded sweep writes with Options.Compare set to more; all of them in one
+// set (route.CommitFiles).
 // Scenario folders stay where the shards wrote them. It fails, writing nothing, when the rows
 // come from different sweeps, when two rows files disagree about a scenario, or when a
 // scenario is missing (naming the missing indexes and the shards that hold them).
-func Merge(dirs []string, out string) (*Report, error) {
+func Merge(dirs []string, out string, more CompareFunc) (*Report, error) {
 	var (
 		head  *rowsHeader
 		from  string
@@ -29,6 +32,10 @@ func Merge(dirs []string, out string) (*Report, error) {
 	var errs []string
 	nfiles := 0
 	for _, d := range dirs {
+		// A shard killed while putting its rows file in place left a journal: finish it.
+		if err := route.RecoverFiles(d); err != nil {
+			return nil, fmt.Errorf("merge: %w", err)
+		}
 		files, err := findRows(d)
 		if err != nil {
 			return nil, fmt.Errorf("merge: %w", err)
@@ -84,24 +91,24 @@ func Merge(dirs []string, out string) (*Report, error) {
 	if len(errs) > 0 {
 		return nil, fmt.Errorf("%w: %s", ErrMerge, strings.Join(errs, "\n"))
 	}
-	files, err := renderRun(*head, rows, Shard{})
+	files, err := renderRun(*head, rows, Shard{}, more)
 	if err != nil {
 		return nil, err
 	}
+	// Merging into one of the shard folders replaces its rows.jsonl, which was read above;
+	// every other rows file read is protected, by identity, not by name.
+	replaced, _ := os.Stat(filepath.Join(out, RowsFile))
 	protect := make([]string, 0, nfiles)
 	for _, d := range dirs {
-		if fs, err := findRows(d); err == nil {
-			protect = append(protect, fs...)
+		fs, _ := findRows(d)
+		for _, p := range fs {
+			if info, err := os.Stat(p); err == nil && replaced != nil && os.SameFile(info, replaced) {
+				continue
+			}
+			protect = append(protect, p)
 		}
 	}
-	// Merging into one of the shard folders replaces its rows.jsonl, which was read above.
-	kept := protect[:0]
-	for _, p := range protect {
-		if filepath.Clean(p) != filepath.Join(filepath.Clean(out), RowsFile) {
-			kept = append(kept, p)
-		}
-	}
-	if err := route.WriteFiles(out, files, kept); err != nil {
+	if err := route.CommitFiles(out, files, protect); err != nil {
 		return nil, err
 	}
 	rep := &Report{Scenarios: head.Scenarios, Run: head.Scenarios}

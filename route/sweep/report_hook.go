@@ -1,6 +1,7 @@
 package sweep
 
 import (
+	"bytes"
 	"fmt"
 	"path/filepath"
 
@@ -59,30 +60,17 @@ func ReadComparison(dir string) (*Comparison, error) {
 	return Judge(rows, h.Keys), nil
 }
 
-// CompareFunc renders more comparison files (a report) from a finished sweep's comparison.
+// CompareFunc renders more comparison files (a report) from a finished sweep's comparison;
+// see Options.Compare and Merge.
 type CompareFunc func(*Comparison) ([]route.OutputFile, error)
 
-// CompareExtra is the hook for sweep-level files beside compare.csv: it reads the comparison
-// of the whole sweep or merge written in dir (see ReadComparison), renders it with render and
-// writes the files into dir atomically (route.WriteFiles). It returns the paths written,
-// sorted as render returned them. Run and Merge do not call it: a caller calls it after a
-// whole (unsharded) run or a merge has written rows.jsonl.
-func CompareExtra(dir string, render CompareFunc) ([]string, error) {
-	c, err := ReadComparison(dir)
+// judgeEncoded judges the rows of an encoded rows file, as ReadComparison would after
+// reading it back: the comparison files a merge renders from the shards' rows files are then
+// the same bytes as the unsharded sweep's.
+func judgeEncoded(data []byte) (*Comparison, error) {
+	h, rows, err := decodeRows(RowsFile, bytes.NewReader(data))
 	if err != nil {
 		return nil, err
 	}
-	files, err := render(c)
-	if err != nil {
-		return nil, err
-	}
-	protect := []string{filepath.Join(dir, RowsFile)}
-	if err := route.WriteFiles(dir, files, protect); err != nil {
-		return nil, err
-	}
-	out := make([]string, len(files))
-	for i, f := range files {
-		out[i] = filepath.Join(dir, f.Name)
-	}
-	return out, nil
+	return Judge(rows, h.Keys), nil
 }

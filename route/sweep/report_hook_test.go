@@ -5,11 +5,10 @@ import (
 	"encoding/csv"
 	"os"
 	"path/filepath"
+	"reflect"
 	"strconv"
 	"strings"
 	"testing"
-
-	"spanwright/route"
 )
 
 func hookRows() []Row {
@@ -66,7 +65,7 @@ func TestJudgeMatchesCompare(t *testing.T) {
 	}
 }
 
-func TestCompareExtra(t *testing.T) {
+func TestReadComparison(t *testing.T) {
 	dir := t.TempDir()
 	rows := hookRows()
 	data, err := encodeRows(rowsHeader{Format: RowsFormat, Sweep: "x", Scenarios: len(rows), Keys: []string{"hub"}}, rows)
@@ -76,30 +75,25 @@ func TestCompareExtra(t *testing.T) {
 	if err := os.WriteFile(filepath.Join(dir, RowsFile), data, 0o644); err != nil {
 		t.Fatal(err)
 	}
-	var seen *Comparison
-	paths, err := CompareExtra(dir, func(c *Comparison) ([]route.OutputFile, error) {
-		seen = c
-		return []route.OutputFile{{Name: "extra.txt", Data: []byte(strconv.Itoa(len(c.Rows)))}}, nil
-	})
+	c, err := ReadComparison(dir)
 	if err != nil {
 		t.Fatal(err)
 	}
-	if len(paths) != 1 || filepath.Base(paths[0]) != "extra.txt" {
-		t.Fatalf("paths %v", paths)
+	if len(c.Keys) != 1 || c.Keys[0] != "hub" || len(c.Rows) != 5 || c.Rows[4].Error != "bad" || c.Rows[0].Rank != 1 {
+		t.Errorf("comparison %+v", c)
 	}
-	if got, _ := os.ReadFile(paths[0]); string(got) != "5" {
-		t.Errorf("extra.txt holds %q", got)
+	// What a sweep hands its Compare hook is what reading its rows file back gives.
+	direct, err := judgeEncoded(data)
+	if err != nil || !reflect.DeepEqual(direct, c) {
+		t.Errorf("judgeEncoded: %+v, %v; want %+v", direct, err, c)
 	}
-	if len(seen.Keys) != 1 || seen.Keys[0] != "hub" || seen.Rows[4].Error != "bad" {
-		t.Errorf("comparison %+v", seen)
-	}
-	// Rows missing, or no rows file: an error naming it, nothing written.
+	// Rows missing, or no rows file: an error naming it.
 	short, _ := encodeRows(rowsHeader{Format: RowsFormat, Sweep: "x", Scenarios: 6}, rows)
 	os.WriteFile(filepath.Join(dir, RowsFile), short, 0o644)
-	if _, err := CompareExtra(dir, nil); err == nil || !strings.Contains(err.Error(), "scenario 5 missing") {
+	if _, err := ReadComparison(dir); err == nil || !strings.Contains(err.Error(), "scenario 5 missing") {
 		t.Errorf("short rows: got %v", err)
 	}
-	if _, err := CompareExtra(t.TempDir(), nil); err == nil || !strings.Contains(err.Error(), RowsFile) {
+	if _, err := ReadComparison(t.TempDir()); err == nil || !strings.Contains(err.Error(), RowsFile) {
 		t.Errorf("no rows file: got %v", err)
 	}
 }

@@ -7,6 +7,7 @@ import (
 	"encoding/hex"
 	"encoding/json"
 	"fmt"
+	"io"
 	"os"
 	"path/filepath"
 	"sort"
@@ -142,12 +143,17 @@ const MaxRowsMiB = 4096
 
 // readRows reads one rows file.
 func readRows(path string) (rowsHeader, []Row, error) {
-	var h rowsHeader
 	data, err := input.ReadFile(path, MaxRowsMiB*input.MiB)
 	if err != nil {
-		return h, nil, err
+		return rowsHeader{}, nil, err
 	}
-	sc := bufio.NewScanner(bytes.NewReader(data))
+	return decodeRows(path, bytes.NewReader(data))
+}
+
+// decodeRows reads a rows file from r; path names it in errors.
+func decodeRows(path string, r io.Reader) (rowsHeader, []Row, error) {
+	var h rowsHeader
+	sc := bufio.NewScanner(r)
 	sc.Buffer(make([]byte, 0, 64<<10), 16<<20)
 	var rows []Row
 	line := 0

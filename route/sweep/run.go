@@ -74,6 +74,9 @@ type Options struct {
 	Extra func(*route.Result) ([]route.OutputFile, error)
 	// Progress, when not nil, is called after each scenario of the run, one call at a time.
 	Progress func(Progress)
+	// Compare, when not nil, renders more comparison files (a report) for a whole sweep;
+	// they are written in one set with compare.csv and the others.
+	Compare CompareFunc
 }
 
 // Progress is the state of a running sweep.
@@ -124,11 +127,15 @@ func (r *Report) count(row Row) {
 
 // Run plans every scenario of f in opt.Shard and writes, under opt.Out, one folder per
 // scenario named by its id, then the rows file and, for a whole sweep, the comparison (see
-// Compare). Scenario folders appear whole or not at all: each is written under a temporary
-// name and renamed into place. A scenario that fails is recorded in its row and the sweep goes
-// on; the returned error is only for what stops the sweep (a file that cannot be written, or
-// ctx cancelled: then the finished scenario folders stay and no rows or comparison file is
-// written). The output is the same, byte for byte, whatever opt.Jobs is.
+// Compare, and opt.Compare's files). Scenario folders appear whole or not at all: each is
+// written under a temporary name and renamed into place. The rows file and the comparison are
+// rendered in memory and written as one set with route.CommitFiles: a full disk leaves none of
+// them and the previous set whole; a sweep killed while renaming them into place leaves a
+// journal that the next run in the folder rolls forward first. A scenario that fails is
+// recorded in its row and the sweep goes on; the returned error is only for what stops the
+// sweep (a file that cannot be written, or ctx cancelled: then the finished scenario folders
+// stay and no rows or comparison file is written). The output is the same, byte for byte,
+// whatever opt.Jobs is.
 func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
 	r, err := newRunner(f, opt)
 	if err != nil {
@@ -157,11 +164,14 @@ func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
 		return rep, err
 	}
 	h := rowsHeader{Format: RowsFormat, Sweep: sweepHash(f), Scenarios: len(f.Scenarios()), Keys: f.Keys(), Shard: opt.Shard.String()}
-	files, err := renderRun(h, rows, opt.Shard)
+	files, err := renderRun(h, rows, opt.Shard, opt.Compare)
 	if err != nil {
 		return rep, err
 	}
-	if err := route.WriteFiles(opt.Out, files, r.protect); err != nil {
+	// Never replace the sweep file, the base plan or any file a scenario read (the hash
+	// cache holds every one, by absolute path).
+	protect := append(append([]string(nil), r.protect...), r.hashes.c.Keys()...)
+	if err := route.CommitFiles(opt.Out, files, protect); err != nil {
 		return rep, err
 	}
 	for _, o := range files {
@@ -170,8 +180,8 @@ func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
 	return rep, nil
 }
 
-// renderRun renders the rows file and, for a whole sweep, the comparison.
-func renderRun(h rowsHeader, rows []Row, sh Shard) ([]route.OutputFile, error) {
+// renderRun renders the rows file and, for a whole sweep, the comparison and more's files.
+func renderRun(h rowsHeader, rows []Row, sh Shard, more CompareFunc) ([]route.OutputFile, error) {
 	data, err := encodeRows(h, rows)
 	if err != nil {
 		return nil, err
@@ -183,7 +193,19 @@ func renderRun(h rowsHeader, rows []Row, sh Shard) ([]route.OutputFile, error) {
 	if err != nil {
 		return nil, err
 	}
-	return append(files, route.OutputFile{Name: RowsFile, Data: data}), nil
+	files = append(files, route.OutputFile{Name: RowsFile, Data: data})
+	if more == nil {
+		return files, nil
+	}
+	c, err := judgeEncoded(data)
+	if err != nil {
+		return nil, err
+	}
+	extra, err := more(c)
+	if err != nil {
+		return nil, err
+	}
+	return append(files, extra...), nil
 }
 
 type runner struct {
@@ -226,8 +248,15 @@ func newRunner(f *File, opt Options) (*runner, error) {
 	if err != nil {
 		return nil, fmt.Errorf("output folder: %w", err)
 	}
+	if info, err := os.Stat(out); err == nil && !info.IsDir() {
+		return nil, &route.OutputError{Path: opt.Out, Err: errors.New("it is a file, not a folder")}
+	}
 	if err := os.MkdirAll(out, 0o755); err != nil {
-		return nil, fmt.Errorf("create output folder: %w", err)
+		return nil, &route.OutputError{Path: opt.Out, Err: err}
+	}
+	// A sweep killed while putting its comparison in place left a journal: finish it first.
+	if err := route.RecoverFiles(out); err != nil {
+		return nil, err
 	}
 	sweepDir, err := filepath.Abs(f.Dir)
 	if err != nil {
@@ -590,20 +619,32 @@ func (r *runner) resumable(dir string, inputs []byte) (route.Summary, bool) {
 }
 
 // publish writes a scenario folder whole: the files go into a temporary folder with
-// route.WriteFiles, which is then renamed to the scenario id, replacing an older folder.
+// route.WriteFresh, which is then renamed to the scenario id, replacing an older folder.
+// Failures are *route.OutputError naming the scenario folder.
 func (r *runner) publish(id string, files []route.OutputFile) error {
 	final := filepath.Join(r.out, id)
+	var tmp string
+	fail := func(err error) error {
+		var oe *route.OutputError
+		if errors.As(err, &oe) {
+			if rest, ok := strings.CutPrefix(oe.Path, tmp); ok && tmp != "" {
+				oe.Path = final + rest // name the place the user knows, not the temporary folder
+			}
+			return fmt.Errorf("scenario %s: %w", id, err)
+		}
+		return fmt.Errorf("scenario %s: %w", id, &route.OutputError{Path: final, Err: err})
+	}
 	tmp, err := os.MkdirTemp(r.out, tmpPrefix+id+".")
 	if err != nil {
-		return fmt.Errorf("scenario %s: %w", id, err)
+		return fail(err)
 	}
 	if err := os.Chmod(tmp, 0o755); err != nil {
 		os.RemoveAll(tmp)
-		return fmt.Errorf("scenario %s: %w", id, err)
+		return fail(err)
 	}
 	if err := route.WriteFresh(tmp, files); err != nil {
 		os.RemoveAll(tmp)
-		return fmt.Errorf("scenario %s: %w", id, err)
+		return fail(err)
 	}
 	err = os.Rename(tmp, final)
 	if err != nil {
@@ -612,12 +653,12 @@ func (r *runner) publish(id string, files []route.OutputFile) error {
 		old := tmp + "-old"
 		if err2 := os.Rename(final, old); err2 != nil {
 			os.RemoveAll(tmp)
-			return fmt.Errorf("scenario %s: %w", id, err)
+			return fail(err)
 		}
 		if err = os.Rename(tmp, final); err != nil {
 			os.Rename(old, final)
 			os.RemoveAll(tmp)
-			return fmt.Errorf("scenario %s: %w", id, err)
+			return fail(err)
 		}
 		r.mu.Lock()
 		r.trash = append(r.trash, old)

@@ -307,7 +307,7 @@ func TestShardAndMerge(t *testing.T) {
 	}{{"separate folders", dirs}, {"shared folder", []string{shared}}} {
 		t.Run(tc.name, func(t *testing.T) {
 			out := filepath.Join(t.TempDir(), "merged")
-			rep, err := Merge(tc.dirs, out)
+			rep, err := Merge(tc.dirs, out, nil)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -332,7 +332,7 @@ func TestShardAndMerge(t *testing.T) {
 		}
 	}
 	// Merging into the shared folder itself works too.
-	if _, err := Merge([]string{shared}, shared); err != nil {
+	if _, err := Merge([]string{shared}, shared, nil); err != nil {
 		t.Errorf("merge into a shard folder: %v", err)
 	}
 
@@ -347,7 +347,7 @@ func TestShardAndMerge(t *testing.T) {
 		}
 	})
 	t.Run("missing shard", func(t *testing.T) {
-		_, err := Merge(dirs[:2], filepath.Join(t.TempDir(), "m"))
+		_, err := Merge(dirs[:2], filepath.Join(t.TempDir(), "m"), nil)
 		if !errors.Is(err, ErrMerge) || !strings.Contains(err.Error(), "2 of 6 scenarios missing: #2, #5") {
 			t.Errorf("got %v, want missing #2, #5", err)
 		}
@@ -355,13 +355,13 @@ func TestShardAndMerge(t *testing.T) {
 	t.Run("other sweep", func(t *testing.T) {
 		other := t.TempDir()
 		run(t, parseInline(t, "cases: [{name: base}]"), Options{Out: other})
-		_, err := Merge(append([]string{other}, dirs...), filepath.Join(t.TempDir(), "m"))
+		_, err := Merge(append([]string{other}, dirs...), filepath.Join(t.TempDir(), "m"), nil)
 		if !errors.Is(err, ErrMerge) || !strings.Contains(err.Error(), "rows of another sweep") {
 			t.Errorf("got %v, want rows of another sweep", err)
 		}
 	})
 	t.Run("not a sweep folder", func(t *testing.T) {
-		_, err := Merge([]string{t.TempDir()}, filepath.Join(t.TempDir(), "m"))
+		_, err := Merge([]string{t.TempDir()}, filepath.Join(t.TempDir(), "m"), nil)
 		if !errors.Is(err, ErrMerge) || !strings.Contains(err.Error(), "no rows file") {
 			t.Errorf("got %v, want no rows file", err)
 		}
