@@ -3,7 +3,7 @@
 GO ?= go
 BIN := bin/spanwright
 
-.PHONY: build test race soak demo golden bench fuzz e2e clean
+.PHONY: build test lint race soak demo golden bench fuzz e2e clean
 
 build:
 	$(GO) build -o $(BIN) ./cmd/spanwright
@@ -13,13 +13,21 @@ test:
 	$(GO) vet ./...
 	$(GO) test -count=1 ./...
 
+# staticcheck (honnef.co/go/tools), installed at a fixed version into Go's bin folder when
+# missing; CI runs it before make test.
+STATICCHECK_VERSION := v0.8.2
+STATICCHECK := $(shell $(GO) env GOPATH)/bin/staticcheck
+lint:
+	test -x $(STATICCHECK) || $(GO) install honnef.co/go/tools/cmd/staticcheck@$(STATICCHECK_VERSION)
+	$(STATICCHECK) ./...
+
 # the tests under the race detector (needs cgo and a C compiler; not part of make test): the
 # sweep's worker pool and the caches shared by its scenarios are the concurrent parts.
 race:
 	$(GO) test -race -count=1 ./...
 
 # the metamorphic properties (route/metamorphic) on 300 generated campuses of 40 buildings and
-# 20 of 300, instead of make test's 8 of 40 (not part of make test; about ten minutes).
+# 20 of 300, instead of make test's 8 of 40 (not part of make test; about half an hour).
 soak:
 	SPANWRIGHT_SOAK=300 $(GO) test -count=1 -timeout 2h ./route/metamorphic/
 	SPANWRIGHT_SOAK=20 SPANWRIGHT_SOAK_BUILDINGS=300 $(GO) test -count=1 -timeout 2h ./route/metamorphic/

@@ -3,7 +3,6 @@ package main
 import (
 	"errors"
 	"fmt"
-	"io"
 	"io/fs"
 	"strings"
 	"syscall"
@@ -152,10 +151,4 @@ func writeOptions(c *cli.Context) (route.WriteOptions, error) {
 		return route.WriteOptions{}, usageError{fmt.Errorf("--units: want metric or imperial, got %q", u)}
 	}
 	return route.WriteOptions{Units: u}, nil
-}
-
-func fprintWarnings(w io.Writer, warnings []string) {
-	for _, m := range warnings {
-		fmt.Fprintf(w, "warning: %s\n", m)
-	}
 }
