@@ -234,9 +234,12 @@ func (r *Result) bomXLSX(opt WriteOptions) ([]byte, error) {
 	num("warnings", float64(s.WarningCount), 0, "")
 
 	// Cable schedule.
-	pullsOf := map[int]int{}
+	pullsOf, hiOf := map[int]int{}, map[int]float64{}
 	for _, p := range r.Estimate.Pulls {
 		pullsOf[p.Leg]++
+		if p.TensionN > hiOf[p.Leg] {
+			hiOf[p.Leg] = p.TensionN
+		}
 	}
 	for i := range r.Legs {
 		l := &r.Legs[i]
@@ -249,12 +252,7 @@ func (r *Result) bomXLSX(opt WriteOptions) ([]byte, error) {
 			links.Append(cells...)
 			continue
 		}
-		hi := 0.0
-		for _, p := range r.Estimate.Pulls {
-			if p.Leg == i && p.TensionN > hi {
-				hi = p.TensionN
-			}
-		}
+		hi := hiOf[i]
 		rated := r.Engine.Catalog().Medium(l.Medium).Construction(l.Construction).MaxPullN
 		cells = append(cells, workbook.Text(l.Medium), workbook.Text(l.Application), workbook.Text(l.ConstructionText()),
 			workbook.Int(int64(l.StrandsCable)), workbook.Int(int64(t.Cables)), workbook.Number(u.mm(t.Size.ODMM), 1),
