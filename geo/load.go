@@ -2,6 +2,7 @@ package geo
 
 import (
 	"bytes"
+	"context"
 	"encoding/json"
 	"errors"
 	"fmt"
@@ -89,8 +90,18 @@ func Parse(name string, data []byte) (*Campus, error) {
 // all files, and an entrance may name a building from another file. Errors are as for Parse,
 // and name the path as given.
 func Load(paths []string) (*Campus, error) {
+	return LoadContext(context.Background(), paths)
+}
+
+// LoadContext is Load that gives up when ctx is done, between files and every
+// featureCheckEvery features, returning ctx's error.
+func LoadContext(ctx context.Context, paths []string) (*Campus, error) {
 	l := newLoader()
+	l.ctx = ctx
 	for _, p := range paths {
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
 		data, err := os.ReadFile(p)
 		if err != nil {
 			l.fileErr(p, fmt.Errorf("read: %w", unwrapPath(err)))
@@ -98,13 +109,22 @@ func Load(paths []string) (*Campus, error) {
 		}
 		l.parseFile(p, data)
 	}
-	return l.finish()
+	return l.finishContext()
 }
 
 // LoadFS is Load reading the named files from fsys.
 func LoadFS(fsys fs.FS, names []string) (*Campus, error) {
+	return LoadFSContext(context.Background(), fsys, names)
+}
+
+// LoadFSContext is LoadContext reading the named files from fsys.
+func LoadFSContext(ctx context.Context, fsys fs.FS, names []string) (*Campus, error) {
 	l := newLoader()
+	l.ctx = ctx
 	for _, n := range names {
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
 		data, err := fs.ReadFile(fsys, n)
 		if err != nil {
 			l.fileErr(n, fmt.Errorf("read: %w", unwrapPath(err)))
@@ -112,7 +132,7 @@ func LoadFS(fsys fs.FS, names []string) (*Campus, error) {
 		}
 		l.parseFile(n, data)
 	}
-	return l.finish()
+	return l.finishContext()
 }
 
 func unwrapPath(err error) error {
@@ -124,6 +144,7 @@ func unwrapPath(err error) error {
 }
 
 type loader struct {
+	ctx  context.Context // LoadContext's; parseFile stops reading features when it is done
 	c    Campus
 	errs ErrorList
 	ids  map[string]idUse
@@ -136,7 +157,19 @@ type idUse struct {
 }
 
 func newLoader() *loader {
-	return &loader{ids: make(map[string]idUse)}
+	return &loader{ctx: context.Background(), ids: make(map[string]idUse)}
+}
+
+// featureCheckEvery is how many features a file's reading takes between two looks at the
+// context.
+const featureCheckEvery = 256
+
+// finishContext is finish, or the error of a context done while the files were read.
+func (l *loader) finishContext() (*Campus, error) {
+	if err := l.ctx.Err(); err != nil {
+		return nil, err
+	}
+	return l.finish()
 }
 
 func (l *loader) fileErr(file string, err error) {
@@ -263,6 +296,9 @@ func (l *loader) parseFile(name string, data []byte) {
 		return
 	}
 	for i, f := range feats {
+		if i%featureCheckEvery == 0 && l.ctx.Err() != nil {
+			return
+		}
 		l.parseFeature(Source{File: name, Index: i}, f)
 	}
 }

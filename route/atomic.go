@@ -1,6 +1,7 @@
 package route
 
 import (
+	"context"
 	"fmt"
 	"os"
 	"path/filepath"
@@ -19,8 +20,12 @@ type OutputFile struct {
 
 // WriteFiles writes every file into dir so that none is ever seen half-written: each goes to
 // a temporary name in dir first, and only when all are written are they renamed into place.
-// It refuses to overwrite any path in protect (the run's inputs).
-func WriteFiles(dir string, files []OutputFile, protect []string) error {
+// It refuses to overwrite any path in protect (the run's inputs). When ctx is done before the
+// renames begin it removes what it wrote and returns ctx's error: nothing is written.
+func WriteFiles(ctx context.Context, dir string, files []OutputFile, protect []string) error {
+	if err := ctx.Err(); err != nil {
+		return err
+	}
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return fmt.Errorf("create output folder: %w", err)
 	}
@@ -45,6 +50,10 @@ func WriteFiles(dir string, files []OutputFile, protect []string) error {
 		}
 	}
 	for _, f := range sorted {
+		if err := ctx.Err(); err != nil {
+			cleanup()
+			return err
+		}
 		final := filepath.Join(dir, f.Name)
 		if guard[abs(final)] {
 			cleanup()
@@ -73,6 +82,10 @@ func WriteFiles(dir string, files []OutputFile, protect []string) error {
 			cleanup()
 			return fmt.Errorf("write %s: %w", final, werr)
 		}
+	}
+	if err := ctx.Err(); err != nil {
+		cleanup()
+		return err
 	}
 	for i, p := range done {
 		if err := os.Rename(p.tmp, p.final); err != nil {

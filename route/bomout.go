@@ -2,6 +2,7 @@ package route
 
 import (
 	"bytes"
+	"context"
 	"encoding/csv"
 	"fmt"
 	"strconv"
@@ -105,7 +106,7 @@ func xlUnitsOf(opt WriteOptions) xlUnits {
 // pull sections, duct fill and loss budgets. Extended prices, subtotals, markups, the
 // total and the budget check are formulas, so a changed unit price or quantity moves
 // them. Physical quantities are numbers with their unit in the header.
-func (r *Result) bomXLSX(opt WriteOptions) ([]byte, error) {
+func (r *Result) bomXLSX(ctx context.Context, opt WriteOptions) ([]byte, error) {
 	u := xlUnitsOf(opt)
 	b := r.Estimate.BOM
 	cur := b.Currency
@@ -299,7 +300,7 @@ func (r *Result) bomXLSX(opt WriteOptions) ([]byte, error) {
 			loss.Append(row...)
 		}
 	}
-	return wb.Bytes()
+	return wb.BytesContext(ctx)
 }
 
 // odsHeader names the duct fill sheet's diameters column: the cables', or the innerducts'

@@ -1,6 +1,7 @@
 package route
 
 import (
+	"context"
 	"io/fs"
 	"sort"
 	"sync"
@@ -37,15 +38,16 @@ const pullCacheSize = 8192
 
 // solve runs the optimizer, or returns the solution of an identical problem solved before on
 // this site. Solve is deterministic, so the answer is the same either way; the returned
-// solution is shared and must not be modified.
-func (s *Site) solve(prob *optimize.Problem, opt optimize.Settings) (*optimize.Solution, error) {
+// solution is shared and must not be modified. A solve stopped by ctx returns ctx's error and
+// is not remembered.
+func (s *Site) solve(ctx context.Context, prob *optimize.Problem, opt optimize.Settings) (*optimize.Solution, error) {
 	key, ok := optimize.Fingerprint(prob, opt)
 	if ok {
 		if sol, hit := s.solved.Get(key); hit {
 			return sol, nil
 		}
 	}
-	sol, err := optimize.Solve(prob, opt)
+	sol, err := optimize.SolveContext(ctx, prob, opt)
 	if err == nil && ok {
 		s.solved.Add(key, sol)
 	}
@@ -59,19 +61,20 @@ type SiteOptions struct {
 }
 
 // LoadSite reads the campus files and builds the network. fsys, when not nil, is read
-// instead of the disk (the embedded demo).
-func LoadSite(fsys fs.FS, files []string, opt SiteOptions) (*Site, error) {
+// instead of the disk (the embedded demo). When ctx is done, reading and building stop and
+// LoadSite returns ctx's error.
+func LoadSite(ctx context.Context, fsys fs.FS, files []string, opt SiteOptions) (*Site, error) {
 	var c *geo.Campus
 	var err error
 	if fsys != nil {
-		c, err = geo.LoadFS(fsys, files)
+		c, err = geo.LoadFSContext(ctx, fsys, files)
 	} else {
-		c, err = geo.Load(files)
+		c, err = geo.LoadContext(ctx, files)
 	}
 	if err != nil {
 		return nil, err
 	}
-	net, err := geo.Build(c, geo.Options{SnapM: opt.SnapM, MaxLateralM: opt.MaxLateralM})
+	net, err := geo.BuildContext(ctx, c, geo.Options{SnapM: opt.SnapM, MaxLateralM: opt.MaxLateralM})
 	if err != nil {
 		return nil, err
 	}

@@ -39,10 +39,10 @@ func runCheck(ctx context.Context, args []string, opt route.WriteOptions, w io.W
 		if perr != nil {
 			return perr
 		}
-		site, err = route.LoadSite(nil, campusPaths(p), siteOptions(p))
+		site, err = route.LoadSite(ctx, nil, campusPaths(p), siteOptions(p))
 		hub = p.Hub
 	} else {
-		site, err = route.LoadSite(nil, args, route.SiteOptions{SnapM: route.PlanDefaults.Design.SnapM, MaxLateralM: route.PlanDefaults.Design.MaxLateralM})
+		site, err = route.LoadSite(ctx, nil, args, route.SiteOptions{SnapM: route.PlanDefaults.Design.SnapM, MaxLateralM: route.PlanDefaults.Design.MaxLateralM})
 	}
 	if err != nil {
 		return err

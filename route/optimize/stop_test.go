@@ -5,25 +5,11 @@ import (
 	"errors"
 	"math/rand/v2"
 	"reflect"
-	"sync/atomic"
 	"testing"
 	"time"
+
+	"spanwright/internal/ctxtest"
 )
-
-// probeCtx is a context that calls at with the number of each look the solver takes at it.
-type probeCtx struct {
-	context.Context
-	looks atomic.Int64
-	at    func(n int64)
-}
-
-func (c *probeCtx) Err() error {
-	n := c.looks.Add(1)
-	if c.at != nil {
-		c.at(n)
-	}
-	return c.Context.Err()
-}
 
 // stopCampuses are the problems the stop tests solve: a small one that runs every phase
 // (second start and kicks) and a larger one.
@@ -42,7 +28,7 @@ func TestSolveContextNeverDone(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		ctx := &probeCtx{Context: context.Background()}
+		ctx := ctxtest.New(0)
 		got, err := SolveContext(ctx, p, Settings{})
 		if err != nil {
 			t.Fatal(err)
@@ -50,9 +36,9 @@ func TestSolveContextNeverDone(t *testing.T) {
 		if !reflect.DeepEqual(got, want) {
 			t.Errorf("%d buildings: SolveContext with a context never done differs from Solve", cs.buildings)
 		}
-		if ctx.looks.Load() < int64(len(p.Demands)) {
+		if ctx.Looks() < int64(len(p.Demands)) {
 			t.Errorf("%d buildings: the solver looked at its context %d times, want at least once per demand (%d)",
-				cs.buildings, ctx.looks.Load(), len(p.Demands))
+				cs.buildings, ctx.Looks(), len(p.Demands))
 		}
 	}
 }
@@ -72,23 +58,18 @@ func TestSolveContextCancelled(t *testing.T) {
 	t.Parallel()
 	for _, cs := range stopCampuses {
 		p := campus(cs)
-		count := &probeCtx{Context: context.Background()}
+		count := ctxtest.New(0)
 		whole := newSolver(p, Settings{})
 		whole.ctx = count
 		whole.run()
-		total, all := count.looks.Load(), whole.searches()
+		total, all := count.Looks(), whole.searches()
 		for _, at := range []int64{1, total / 4, total / 2, 3 * total / 4} {
-			ctx, cancel := context.WithCancel(context.Background())
 			sv := newSolver(p, Settings{})
 			var seenAt int64 = -1
-			sv.ctx = &probeCtx{Context: ctx, at: func(n int64) {
-				if n == at {
-					cancel()
-					seenAt = sv.searches()
-				}
-			}}
+			probe := ctxtest.New(at)
+			probe.OnStop = func() { seenAt = sv.searches() }
+			sv.ctx = probe
 			sv.run()
-			cancel()
 			if !sv.stopped() || seenAt < 0 {
 				t.Errorf("%d buildings, cancelled at look %d of %d: the solver did not stop", cs.buildings, at, total)
 				continue
@@ -99,18 +80,8 @@ func TestSolveContextCancelled(t *testing.T) {
 				t.Errorf("%d buildings, cancelled at look %d of %d: %d searches after the stop was seen, want at most %d (a whole solve runs %d)",
 					cs.buildings, at, total, more, maxSearchesAfterStop, all)
 			}
-			sol, err := SolveContext(&probeCtx{Context: ctx}, p, Settings{})
-			if !errors.Is(err, context.Canceled) || sol != nil {
-				t.Errorf("%d buildings: SolveContext on a cancelled context: got %v, %v; want no solution and context.Canceled", cs.buildings, sol != nil, err)
-			}
 		}
-		ctx, cancel := context.WithCancel(context.Background())
-		sol, err := SolveContext(&probeCtx{Context: ctx, at: func(n int64) {
-			if n == total/2 {
-				cancel()
-			}
-		}}, p, Settings{})
-		cancel()
+		sol, err := SolveContext(ctxtest.New(total/2), p, Settings{})
 		if !errors.Is(err, context.Canceled) || sol != nil {
 			t.Errorf("%d buildings: SolveContext cancelled halfway: got %v, %v; want no solution and context.Canceled", cs.buildings, sol != nil, err)
 		}
@@ -136,25 +107,20 @@ func TestSolveContextStopsPromptly(t *testing.T) {
 	}
 	t.Parallel()
 	p := campus(campusSpec{buildings: 1000, seed: 7, diverseFrac: 0.1, options: 3, capacity: true, proposedPct: 10})
-	ctx, cancel := context.WithCancel(context.Background())
-	defer cancel()
-	started := make(chan struct{})
-	probe := &probeCtx{Context: ctx, at: func(n int64) {
-		if n == int64(len(p.Demands))+1 { // past the first start, in the local search
-			close(started)
-		}
-	}}
+	probe := ctxtest.New(0)
 	done := make(chan error, 1)
 	go func() {
 		_, err := SolveContext(probe, p, Settings{})
 		done <- err
 	}()
-	select {
-	case <-started:
-	case err := <-done:
-		t.Fatalf("the solve ended (%v) before it was under way", err)
+	for probe.Looks() <= int64(len(p.Demands)) { // until past the first start, in the local search
+		select {
+		case err := <-done:
+			t.Fatalf("the solve ended (%v) before it was under way", err)
+		case <-time.After(time.Millisecond):
+		}
 	}
-	cancel()
+	probe.Cancel()
 	t0 := time.Now()
 	err := <-done
 	t.Logf("returned %v after the cancel", time.Since(t0))

@@ -1,6 +1,7 @@
 package report
 
 import (
+	"context"
 	"testing"
 
 	"spanwright/route/sweep"
@@ -13,7 +14,7 @@ func BenchmarkPlan(b *testing.B) {
 	b.Run("demo", func(b *testing.B) {
 		b.ReportAllocs()
 		for b.Loop() {
-			if _, err := Plan(r, Options{}); err != nil {
+			if _, err := Plan(context.Background(), r, Options{}); err != nil {
 				b.Fatal(err)
 			}
 		}

@@ -1,6 +1,7 @@
 package sweep
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"path/filepath"
@@ -101,7 +102,7 @@ func Merge(dirs []string, out string) (*Report, error) {
 			kept = append(kept, p)
 		}
 	}
-	if err := route.WriteFiles(out, files, kept); err != nil {
+	if err := route.WriteFiles(context.Background(), out, files, kept); err != nil {
 		return nil, err
 	}
 	rep := &Report{Scenarios: head.Scenarios, Run: head.Scenarios}

@@ -1,6 +1,7 @@
 package sweep
 
 import (
+	"context"
 	"fmt"
 	"path/filepath"
 
@@ -77,7 +78,7 @@ func CompareExtra(dir string, render CompareFunc) ([]string, error) {
 		return nil, err
 	}
 	protect := []string{filepath.Join(dir, RowsFile)}
-	if err := route.WriteFiles(dir, files, protect); err != nil {
+	if err := route.WriteFiles(context.Background(), dir, files, protect); err != nil {
 		return nil, err
 	}
 	out := make([]string, len(files))
