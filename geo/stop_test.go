@@ -1,6 +1,7 @@
 package geo
 
 import (
+	"bytes"
 	"context"
 	"errors"
 	"fmt"
@@ -73,6 +74,34 @@ func TestBuildContextStops(t *testing.T) {
 	for at := int64(1); at <= total; at++ {
 		if n, err := BuildContext(ctxtest.New(at), &c, Options{}); !errors.Is(err, context.Canceled) || n != nil {
 			t.Errorf("cancelled at look %d of %d: got a network %v, %v; want none and context.Canceled", at, total, n != nil, err)
+		}
+	}
+}
+
+// TestWriteRoutesContextStops writes 300 routes with a context cancelled at each look the
+// writing takes at it (every routeCheckEvery routes): each returns context.Canceled and writes
+// nothing; a context never done writes what WriteRoutes writes.
+func TestWriteRoutesContextStops(t *testing.T) {
+	t.Parallel()
+	n := routeNetwork(t)
+	var feats []RouteFeature
+	for i := 0; i < 300; i++ {
+		feats = append(feats, RouteFeature{FromBuilding: "B2", ToBuilding: "B1", Steps: []Step{{SpanID: "T/2", Reverse: true}},
+			Props: map[string]any{"n": i}})
+	}
+	var want, got bytes.Buffer
+	if err := n.WriteRoutes(&want, feats); err != nil {
+		t.Fatal(err)
+	}
+	count := ctxtest.New(0)
+	if err := n.WriteRoutesContext(count, &got, feats); err != nil || !bytes.Equal(got.Bytes(), want.Bytes()) {
+		t.Fatalf("with a context never done: %v, same bytes: %v", err, bytes.Equal(got.Bytes(), want.Bytes()))
+	}
+	total := count.Looks()
+	for at := int64(1); at <= total; at++ {
+		var out bytes.Buffer
+		if err := n.WriteRoutesContext(ctxtest.New(at), &out, feats); !errors.Is(err, context.Canceled) || out.Len() > 0 {
+			t.Errorf("cancelled at look %d of %d: wrote %d bytes, %v; want none and context.Canceled", at, total, out.Len(), err)
 		}
 	}
 }

@@ -239,10 +239,12 @@ func (r *Result) estimate(ctx context.Context) error {
 		}
 	}
 	e.AddedPullPoints = len(added)
-	r.ductFill()
-	r.connectivity()
-	r.construction()
-	r.quantities()
+	for _, step := range []func(){r.ductFill, r.connectivity, r.construction, r.quantities} {
+		if err := ctx.Err(); err != nil {
+			return err
+		}
+		step()
+	}
 	if err := ctx.Err(); err != nil {
 		return err
 	}

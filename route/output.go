@@ -207,7 +207,7 @@ func (r *Result) routesGeoJSON(ctx context.Context) ([]byte, error) {
 		feats = append(feats, geo.RouteFeature{FromBuilding: l.Link.To, ToBuilding: l.Link.From, Steps: l.Steps, Props: props})
 	}
 	var buf bytes.Buffer
-	if err := r.Site.Net.WriteRoutes(&buf, feats); err != nil {
+	if err := r.Site.Net.WriteRoutesContext(ctx, &buf, feats); err != nil {
 		return nil, err
 	}
 	return buf.Bytes(), nil

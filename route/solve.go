@@ -188,6 +188,9 @@ func SolveWith(ctx context.Context, s *Site, p *Plan, eng *media.Engine) (*Resul
 		return nil, err
 	}
 	links, errs := s.Links(p, hub)
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
 	cat := eng.Catalog()
 	for _, l := range links {
 		if _, err := cat.ParseRate(l.Rate); err != nil {
@@ -214,6 +217,9 @@ func SolveWith(ctx context.Context, s *Site, p *Plan, eng *media.Engine) (*Resul
 	}
 	prob, infos, err := s.problem(cm, links)
 	if err != nil {
+		return nil, err
+	}
+	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
 	sol, err := s.solve(ctx, prob, optimize.Settings{Objective: p.Design.Objective})

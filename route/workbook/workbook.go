@@ -471,19 +471,28 @@ func (z *sortedZip) Close() error {
 	zw := zip.NewWriter(z.w)
 	zw.RegisterCompressor(zip.Deflate, fastDeflate)
 	for _, n := range names {
-		if err := z.ctx.Err(); err != nil {
-			return err
-		}
 		fw, err := zw.CreateHeader(&zip.FileHeader{Name: n, Method: zip.Deflate})
 		if err != nil {
 			return err
 		}
-		if _, err := fw.Write(z.parts[n].Bytes()); err != nil {
-			return err
+		// In pieces, so that a stop ends a large sheet's compression soon; deflate's output
+		// does not depend on how its input is split into writes.
+		w := ctxio.Writer(z.ctx, fw)
+		for data := z.parts[n].Bytes(); ; data = data[partPiece:] {
+			if _, err := w.Write(data[:min(len(data), partPiece)]); err != nil {
+				return err
+			}
+			if len(data) <= partPiece {
+				break
+			}
 		}
 	}
 	return zw.Close()
 }
+
+// partPiece is how many bytes of a part sortedZip compresses between two looks at the
+// context: a few milliseconds of deflate.
+const partPiece = 1 << 18
 
 // flateWriters are reused: a compressor holds about a megabyte of state.
 var flateWriters = sync.Pool{New: func() any {
