@@ -1,6 +1,7 @@
 package geo
 
 import (
+	"context"
 	"fmt"
 	"math"
 	"sort"
@@ -51,6 +52,12 @@ const minCellM = 25.0
 // ±180° meridian are not supported. Time is about O(n log n) in the number of vertices, using
 // a grid index.
 func Build(c *Campus, opt Options) (*Network, error) {
+	return BuildContext(context.Background(), c, opt)
+}
+
+// BuildContext is Build that gives up when ctx is done, between its steps (noding, cutting,
+// numbering, access, crossings), returning ctx's error.
+func BuildContext(ctx context.Context, c *Campus, opt Options) (*Network, error) {
 	if c == nil {
 		return nil, fmt.Errorf("geo: build: nil campus")
 	}
@@ -68,28 +75,37 @@ func Build(c *Campus, opt Options) (*Network, error) {
 	if b.validate(); b.errs.Len() > 0 {
 		return nil, &b.errs
 	}
-	b.setup()
-	b.joinVertices()
-	b.joinEnds()
-	b.joinStructures()
-	b.joinEntrances()
-	b.planAccess()
+	steps := []func(){b.setup, b.joinVertices, b.joinEnds, b.joinStructures, b.joinEntrances, b.planAccess}
+	if err := runSteps(ctx, steps); err != nil {
+		return nil, err
+	}
 	if b.errs.Len() > 0 {
 		return nil, &b.errs
 	}
-	b.cut()
-	b.number()
 	n := &Network{}
-	b.spans(n)
-	b.junctions(n)
-	b.access(n)
+	steps = []func(){b.cut, b.number, func() { b.spans(n) }, func() { b.junctions(n) }, func() { b.access(n) }}
+	if err := runSteps(ctx, steps); err != nil {
+		return nil, err
+	}
 	if b.errs.Len() > 0 {
 		return nil, &b.errs
 	}
-	b.crossings()
-	n.Warnings = b.warnings()
-	n.index()
+	if err := runSteps(ctx, []func(){b.crossings, func() { n.Warnings = b.warnings() }, n.index}); err != nil {
+		return nil, err
+	}
 	return n, nil
+}
+
+// runSteps runs steps in order, looking at ctx before each and after the last, and returns
+// ctx's error as soon as it is done.
+func runSteps(ctx context.Context, steps []func()) error {
+	for _, step := range steps {
+		if err := ctx.Err(); err != nil {
+			return err
+		}
+		step()
+	}
+	return ctx.Err()
 }
 
 type memberKind uint8

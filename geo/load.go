@@ -3,6 +3,7 @@ package geo
 import (
 	"bytes"
 	"cmp"
+	"context"
 	"encoding/json"
 	"errors"
 	"fmt"
@@ -106,13 +107,28 @@ func Parse(name string, data []byte) (*Campus, error) {
 // all files, and an entrance may name a building from another file. Errors are as for Parse,
 // and name the path as given. Each file must be a regular file of at most
 // input.DefaultDataMiB MiB.
-func Load(paths []string) (*Campus, error) { return LoadLimit(paths, 0) }
+func Load(paths []string) (*Campus, error) { return LoadLimitContext(context.Background(), paths, 0) }
 
 // LoadLimit is Load with a cap of maxBytes bytes on each file (0: input.DefaultDataMiB MiB).
 func LoadLimit(paths []string, maxBytes int64) (*Campus, error) {
+	return LoadLimitContext(context.Background(), paths, maxBytes)
+}
+
+// LoadContext is Load that gives up when ctx is done, between files and every
+// featureCheckEvery features, returning ctx's error.
+func LoadContext(ctx context.Context, paths []string) (*Campus, error) {
+	return LoadLimitContext(ctx, paths, 0)
+}
+
+// LoadLimitContext is LoadLimit that gives up when ctx is done, as LoadContext.
+func LoadLimitContext(ctx context.Context, paths []string, maxBytes int64) (*Campus, error) {
 	l := newLoader()
+	l.ctx = ctx
 	max := input.Cap(maxBytes, input.DefaultDataMiB)
 	for _, p := range paths {
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
 		data, err := input.ReadFile(p, max)
 		if err != nil {
 			l.fileErr(p, fmt.Errorf("read: %w", input.Cause(err)))
@@ -120,13 +136,22 @@ func LoadLimit(paths []string, maxBytes int64) (*Campus, error) {
 		}
 		l.parseFile(p, data)
 	}
-	return l.finish()
+	return l.finishContext()
 }
 
 // LoadFS is Load reading the named files from fsys.
 func LoadFS(fsys fs.FS, names []string) (*Campus, error) {
+	return LoadFSContext(context.Background(), fsys, names)
+}
+
+// LoadFSContext is LoadContext reading the named files from fsys.
+func LoadFSContext(ctx context.Context, fsys fs.FS, names []string) (*Campus, error) {
 	l := newLoader()
+	l.ctx = ctx
 	for _, n := range names {
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
 		data, err := input.ReadFS(fsys, n, input.Cap(0, input.DefaultDataMiB))
 		if err != nil {
 			l.fileErr(n, fmt.Errorf("read: %w", input.Cause(err)))
@@ -134,10 +159,11 @@ func LoadFS(fsys fs.FS, names []string) (*Campus, error) {
 		}
 		l.parseFile(n, data)
 	}
-	return l.finish()
+	return l.finishContext()
 }
 
 type loader struct {
+	ctx  context.Context // LoadContext's; parseFile stops reading features when it is done
 	c    Campus
 	errs ErrorList
 	ids  map[string]idUse
@@ -150,7 +176,19 @@ type idUse struct {
 }
 
 func newLoader() *loader {
-	return &loader{ids: make(map[string]idUse)}
+	return &loader{ctx: context.Background(), ids: make(map[string]idUse)}
+}
+
+// featureCheckEvery is how many features a file's reading takes between two looks at the
+// context.
+const featureCheckEvery = 256
+
+// finishContext is finish, or the error of a context done while the files were read.
+func (l *loader) finishContext() (*Campus, error) {
+	if err := l.ctx.Err(); err != nil {
+		return nil, err
+	}
+	return l.finish()
 }
 
 func (l *loader) fileErr(file string, err error) {
@@ -291,6 +329,9 @@ func (l *loader) parseFile(name string, data []byte) {
 		return
 	}
 	for i, f := range feats {
+		if i%featureCheckEvery == 0 && l.ctx.Err() != nil {
+			return
+		}
 		l.parseFeature(Source{File: name, Index: i}, f, dups[i])
 	}
 }

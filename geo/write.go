@@ -3,6 +3,7 @@ package geo
 import (
 	"bufio"
 	"bytes"
+	"context"
 	"encoding/json"
 	"fmt"
 	"io"
@@ -114,9 +115,24 @@ func fmtCoordOut(x float64) string {
 // coordinates rounded to CoordDecimals. It fails, writing nothing, on an unknown building or
 // span, steps that do not meet, or properties JSON cannot encode (such as NaN).
 func (n *Network) WriteRoutes(w io.Writer, feats []RouteFeature) error {
+	return n.WriteRoutesContext(context.Background(), w, feats)
+}
+
+// routeCheckEvery is how many routes WriteRoutesContext renders between two looks at the
+// context.
+const routeCheckEvery = 64
+
+// WriteRoutesContext is WriteRoutes that gives up when ctx is done, every routeCheckEvery
+// routes, returning ctx's error and writing nothing.
+func (n *Network) WriteRoutesContext(ctx context.Context, w io.Writer, feats []RouteFeature) error {
 	var buf bytes.Buffer
 	buf.WriteString(`{"type":"FeatureCollection","features":[`)
 	for i, f := range feats {
+		if i%routeCheckEvery == 0 {
+			if err := ctx.Err(); err != nil {
+				return err
+			}
+		}
 		ls, err := n.RouteLine(f)
 		if err != nil {
 			return fmt.Errorf("route %d (%s to %s): %w", i+1, f.FromBuilding, f.ToBuilding, err)

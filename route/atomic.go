@@ -1,6 +1,7 @@
 package route
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"io/fs"
@@ -104,7 +105,13 @@ const (
 // Leftovers of a killed run (its hidden folders beside dir) are removed, or restored when
 // dir itself went missing, before anything is written. Failures to write (a full disk, a
 // missing permission, dir naming a file) are *OutputError.
-func WriteFiles(dir string, files []OutputFile, protect []string) error {
+//
+// When ctx is done before the new set is switched in, WriteFiles removes what it wrote and
+// returns ctx's error: nothing is written.
+func WriteFiles(ctx context.Context, dir string, files []OutputFile, protect []string) error {
+	if err := ctx.Err(); err != nil {
+		return err
+	}
 	sorted, err := sortedOutputs(files)
 	if err != nil {
 		return err
@@ -115,7 +122,7 @@ func WriteFiles(dir string, files []OutputFile, protect []string) error {
 	}
 	parent, base := filepath.Dir(real), filepath.Base(real)
 	if parent == real {
-		return CommitFiles(real, files, protect)
+		return CommitFiles(ctx, real, files, protect)
 	}
 	recoverSiblings(parent, base, real)
 	if _, err := os.Lstat(real); err == nil {
@@ -134,12 +141,12 @@ func WriteFiles(dir string, files []OutputFile, protect []string) error {
 		}
 		mode, oldInfo = info.Mode().Perm(), info
 		if pinfo, err := os.Stat(parent); err != nil || !sameDevice(info, pinfo) {
-			return CommitFiles(real, files, protect)
+			return CommitFiles(ctx, real, files, protect)
 		}
 		if wd, err := os.Stat("."); err == nil && os.SameFile(wd, info) {
 			// The shell that started us is most likely in dir: replacing the folder would
 			// leave it in the old one, empty, and relative paths typed there would fail.
-			return CommitFiles(real, files, protect)
+			return CommitFiles(ctx, real, files, protect)
 		}
 		if err := RecoverFiles(real); err != nil {
 			return err
@@ -151,7 +158,7 @@ func WriteFiles(dir string, files []OutputFile, protect []string) error {
 	tmp, err := os.MkdirTemp(parent, siblingPrefix(base, "new"))
 	if err != nil {
 		if exists && errors.Is(err, fs.ErrPermission) {
-			return CommitFiles(real, files, protect)
+			return CommitFiles(ctx, real, files, protect)
 		}
 		return outErr(real, err)
 	}
@@ -172,6 +179,9 @@ func WriteFiles(dir string, files []OutputFile, protect []string) error {
 		if err := keepEntry(real, tmp, name); err != nil {
 			return fail(err)
 		}
+	}
+	if err := ctx.Err(); err != nil {
+		return fail(err)
 	}
 	if err := hook("switch", real); err != nil {
 		return fail(outErr(real, err))
@@ -489,8 +499,12 @@ func recoverSiblings(parent, base, real string) {
 // leaves some old and some new files until the next CommitFiles or RecoverFiles on dir,
 // which finishes the renames (rolls the journal forward); that window, between a kill and
 // the next run, is the one a reader can see a mix in. An output that would replace one of
-// the files in protect is refused, wrapping ErrOverwrite.
-func CommitFiles(dir string, files []OutputFile, protect []string) error {
+// the files in protect is refused, wrapping ErrOverwrite. When ctx is done before the mark,
+// nothing new is left and ctx's error is returned.
+func CommitFiles(ctx context.Context, dir string, files []OutputFile, protect []string) error {
+	if err := ctx.Err(); err != nil {
+		return err
+	}
 	sorted, err := sortedOutputs(files)
 	if err != nil {
 		return err
@@ -517,6 +531,10 @@ func CommitFiles(dir string, files []OutputFile, protect []string) error {
 		return outErr(dir, err)
 	}
 	if err := writeAll(stage, dir, sorted); err != nil {
+		os.RemoveAll(stage)
+		return err
+	}
+	if err := ctx.Err(); err != nil {
 		os.RemoveAll(stage)
 		return err
 	}

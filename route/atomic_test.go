@@ -2,6 +2,7 @@ package route
 
 import (
 	"bytes"
+	"context"
 	"errors"
 	"fmt"
 	"io/fs"
@@ -89,7 +90,7 @@ func TestWriteFilesReplacesTheSetKeepingForeignFiles(t *testing.T) {
 			}
 			parent := t.TempDir()
 			out := filepath.Join(parent, "out")
-			if err := WriteFiles(out, outputSet("old"), nil); err != nil {
+			if err := WriteFiles(context.Background(), out, outputSet("old"), nil); err != nil {
 				t.Fatal(err)
 			}
 			notes := filepath.Join(out, "notes.txt")
@@ -100,7 +101,7 @@ func TestWriteFilesReplacesTheSetKeepingForeignFiles(t *testing.T) {
 				t.Fatal(err)
 			}
 			before, _ := os.Stat(notes)
-			if err := WriteFiles(out, outputSet("new"), nil); err != nil {
+			if err := WriteFiles(context.Background(), out, outputSet("new"), nil); err != nil {
 				t.Fatal(err)
 			}
 			wholeSet(t, out, "new")
@@ -126,7 +127,7 @@ func TestWriteFilesRefusesWhatItCannotKeep(t *testing.T) {
 		if err := os.Mkdir(filepath.Join(out, sub), 0o755); err != nil {
 			t.Fatal(err)
 		}
-		err := WriteFiles(out, outputSet("new"), nil)
+		err := WriteFiles(context.Background(), out, outputSet("new"), nil)
 		if !errors.Is(err, ErrOutFolder) || !strings.Contains(err.Error(), sub) {
 			t.Errorf("%s: got %v, want ErrOutFolder naming it", sub, err)
 		}
@@ -154,8 +155,8 @@ func TestWriteFilesGuardByIdentity(t *testing.T) {
 		t.Fatal(err)
 	}
 	for _, out := range []string{link, hard, inputs} {
-		for _, write := range []func(string, []OutputFile, []string) error{WriteFiles, CommitFiles} {
-			err := write(out, outputSet("new"), []string{campus})
+		for _, write := range []func(context.Context, string, []OutputFile, []string) error{WriteFiles, CommitFiles} {
+			err := write(context.Background(), out, outputSet("new"), []string{campus})
 			if !errors.Is(err, ErrOverwrite) || !strings.Contains(err.Error(), campus) {
 				t.Errorf("--out %s: got %v, want ErrOverwrite naming %s", out, err, campus)
 			}
@@ -170,14 +171,14 @@ func TestWriteFilesGuardByIdentity(t *testing.T) {
 // folder; the link stays a link.
 func TestWriteFilesFollowsOutSymlink(t *testing.T) {
 	real := filepath.Join(t.TempDir(), "real")
-	if err := WriteFiles(real, outputSet("old"), nil); err != nil {
+	if err := WriteFiles(context.Background(), real, outputSet("old"), nil); err != nil {
 		t.Fatal(err)
 	}
 	link := filepath.Join(t.TempDir(), "link")
 	if err := os.Symlink(real, link); err != nil {
 		t.Fatal(err)
 	}
-	if err := WriteFiles(link, outputSet("new"), nil); err != nil {
+	if err := WriteFiles(context.Background(), link, outputSet("new"), nil); err != nil {
 		t.Fatal(err)
 	}
 	wholeSet(t, real, "new")
@@ -205,15 +206,15 @@ func failNth(dir string, n int) func(step, path string) error {
 // *OutputError naming the file.
 func TestWritersDiskFull(t *testing.T) {
 	defer func() { WriteHook = nil }()
-	for name, write := range map[string]func(string, []OutputFile, []string) error{"WriteFiles": WriteFiles, "CommitFiles": CommitFiles} {
+	for name, write := range map[string]func(context.Context, string, []OutputFile, []string) error{"WriteFiles": WriteFiles, "CommitFiles": CommitFiles} {
 		for n := 1; n <= len(outputSet("")); n++ {
 			out := filepath.Join(t.TempDir(), "out")
 			WriteHook = nil
-			if err := write(out, outputSet("old"), nil); err != nil {
+			if err := write(context.Background(), out, outputSet("old"), nil); err != nil {
 				t.Fatal(err)
 			}
 			WriteHook = failNth(out, n)
-			err := write(out, outputSet("new"), nil)
+			err := write(context.Background(), out, outputSet("new"), nil)
 			var oe *OutputError
 			if !errors.As(err, &oe) || !errors.Is(err, syscall.ENOSPC) || filepath.Dir(oe.Path) != out {
 				t.Errorf("%s, file %d: got %v, want an OutputError for a file in %s", name, n, err, out)
@@ -231,9 +232,9 @@ func TestOutIsAFile(t *testing.T) {
 	if err := os.WriteFile(file, []byte("x"), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	for name, write := range map[string]func(string, []OutputFile, []string) error{"WriteFiles": WriteFiles, "CommitFiles": CommitFiles} {
+	for name, write := range map[string]func(context.Context, string, []OutputFile, []string) error{"WriteFiles": WriteFiles, "CommitFiles": CommitFiles} {
 		var oe *OutputError
-		if err := write(file, outputSet("new"), nil); !errors.As(err, &oe) || !strings.Contains(err.Error(), "is a file, not a folder") {
+		if err := write(context.Background(), file, outputSet("new"), nil); !errors.As(err, &oe) || !strings.Contains(err.Error(), "is a file, not a folder") {
 			t.Errorf("%s: got %v", name, err)
 		}
 	}
@@ -246,12 +247,12 @@ func TestRecoverAfterKill(t *testing.T) {
 	t.Run("WriteFiles killed before the switch", func(t *testing.T) {
 		parent := t.TempDir()
 		out := filepath.Join(parent, "out")
-		if err := WriteFiles(out, outputSet("old"), nil); err != nil {
+		if err := WriteFiles(context.Background(), out, outputSet("old"), nil); err != nil {
 			t.Fatal(err)
 		}
 		left := filepath.Join(parent, fmt.Sprintf("%sout.new-%d-123", ourPrefix, dead))
 		leave(t, left, outputSet("half")[:2])
-		if err := WriteFiles(out, outputSet("new"), nil); err != nil {
+		if err := WriteFiles(context.Background(), out, outputSet("new"), nil); err != nil {
 			t.Fatal(err)
 		}
 		wholeSet(t, out, "new")
@@ -262,7 +263,7 @@ func TestRecoverAfterKill(t *testing.T) {
 		out := filepath.Join(parent, "out")
 		old := filepath.Join(parent, fmt.Sprintf("%sout.old-%d-456", ourPrefix, dead))
 		leave(t, old, append(outputSet("old"), OutputFile{Name: "notes.txt", Data: []byte("mine")}))
-		if err := WriteFiles(out, outputSet("new"), nil); err != nil {
+		if err := WriteFiles(context.Background(), out, outputSet("new"), nil); err != nil {
 			t.Fatal(err)
 		}
 		wholeSet(t, out, "new")
@@ -277,7 +278,7 @@ func TestRecoverAfterKill(t *testing.T) {
 		if err := os.Mkdir(live, 0o755); err != nil {
 			t.Fatal(err)
 		}
-		if err := WriteFiles(filepath.Join(parent, "out"), outputSet("new"), nil); err != nil {
+		if err := WriteFiles(context.Background(), filepath.Join(parent, "out"), outputSet("new"), nil); err != nil {
 			t.Fatal(err)
 		}
 		if _, err := os.Stat(live); err != nil {
@@ -286,7 +287,7 @@ func TestRecoverAfterKill(t *testing.T) {
 	})
 	t.Run("CommitFiles killed while renaming", func(t *testing.T) {
 		out := t.TempDir()
-		if err := CommitFiles(out, outputSet("old"), nil); err != nil {
+		if err := CommitFiles(context.Background(), out, outputSet("old"), nil); err != nil {
 			t.Fatal(err)
 		}
 		stage := filepath.Join(out, fmt.Sprintf("%s%d-1", stagePrefix, dead))
@@ -305,7 +306,7 @@ func TestRecoverAfterKill(t *testing.T) {
 	})
 	t.Run("CommitFiles killed before its mark", func(t *testing.T) {
 		out := t.TempDir()
-		if err := CommitFiles(out, outputSet("old"), nil); err != nil {
+		if err := CommitFiles(context.Background(), out, outputSet("old"), nil); err != nil {
 			t.Fatal(err)
 		}
 		stage := filepath.Join(out, fmt.Sprintf("%s%d-2", stagePrefix, dead))
@@ -331,7 +332,7 @@ func TestCommitFilesOneSet(t *testing.T) {
 		steps = append(steps, step)
 		return nil
 	}
-	if err := CommitFiles(out, outputSet("new"), nil); err != nil {
+	if err := CommitFiles(context.Background(), out, outputSet("new"), nil); err != nil {
 		t.Fatal(err)
 	}
 	want := strings.Repeat("write ", 6) + "commit " + strings.Repeat("rename ", 6)
@@ -349,7 +350,7 @@ func TestWriteFilesIntoWorkingFolder(t *testing.T) {
 	t.Chdir(dir)
 	before, _ := os.Stat(".")
 	for _, tag := range []string{"old", "new"} {
-		if err := WriteFiles(".", outputSet(tag), nil); err != nil {
+		if err := WriteFiles(context.Background(), ".", outputSet(tag), nil); err != nil {
 			t.Fatal(err)
 		}
 	}

@@ -32,7 +32,7 @@ func demoSite(tb testing.TB) (*Site, *Plan) {
 		for i, f := range p.Campus {
 			files[i] = p.Path(f)
 		}
-		demoOnce.site, demoOnce.err = LoadSite(nil, files, SiteOptions{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM})
+		demoOnce.site, demoOnce.err = LoadSite(context.Background(), nil, files, SiteOptions{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM})
 		demoOnce.plan = p
 	})
 	if demoOnce.err != nil {
@@ -152,6 +152,14 @@ func synthSite(tb testing.TB, n int) *Site {
 	if s, ok := synthSites.Load(n); ok {
 		return s.(*Site)
 	}
+	s := newSynthSite(tb, n)
+	synthSites.Store(n, s)
+	return s
+}
+
+// newSynthSite builds a site of its own on the synthetic campus of about n buildings.
+func newSynthSite(tb testing.TB, n int) *Site {
+	tb.Helper()
 	c, err := geo.Parse("synthetic.geojson", synthCampus(n))
 	if err != nil {
 		tb.Fatal(err)
@@ -160,9 +168,7 @@ func synthSite(tb testing.TB, n int) *Site {
 	if err != nil {
 		tb.Fatal(err)
 	}
-	s := NewSite(c, net)
-	synthSites.Store(n, s)
-	return s
+	return NewSite(c, net)
 }
 
 // synthPlan is the benchmark plan: one link per building to its nearest cross-connect,

@@ -2,6 +2,7 @@ package route
 
 import (
 	"bytes"
+	"context"
 	"fmt"
 	"strconv"
 	"strings"
@@ -107,7 +108,7 @@ func xlUnitsOf(opt WriteOptions) xlUnits {
 // pull sections, duct fill and loss budgets. Extended prices, subtotals, markups, the
 // total and the budget check are formulas, so a changed unit price or quantity moves
 // them. Physical quantities are numbers with their unit in the header.
-func (r *Result) bomXLSX(opt WriteOptions) ([]byte, error) {
+func (r *Result) bomXLSX(ctx context.Context, opt WriteOptions) ([]byte, error) {
 	u := xlUnitsOf(opt)
 	b := r.Estimate.BOM
 	cur := b.Currency
@@ -236,9 +237,12 @@ func (r *Result) bomXLSX(opt WriteOptions) ([]byte, error) {
 	num("warnings", float64(s.WarningCount), 0, "")
 
 	// Cable schedule.
-	pullsOf := map[int]int{}
+	pullsOf, hiOf := map[int]int{}, map[int]float64{}
 	for _, p := range r.Estimate.Pulls {
 		pullsOf[p.Leg]++
+		if p.TensionN > hiOf[p.Leg] {
+			hiOf[p.Leg] = p.TensionN
+		}
 	}
 	for i := range r.Legs {
 		l := &r.Legs[i]
@@ -251,12 +255,7 @@ func (r *Result) bomXLSX(opt WriteOptions) ([]byte, error) {
 			links.Append(cells...)
 			continue
 		}
-		hi := 0.0
-		for _, p := range r.Estimate.Pulls {
-			if p.Leg == i && p.TensionN > hi {
-				hi = p.TensionN
-			}
-		}
+		hi := hiOf[i]
 		rated := r.Engine.Catalog().Medium(l.Medium).Construction(l.Construction).MaxPullN
 		cells = append(cells, workbook.Text(l.Medium), workbook.Text(l.Application), workbook.Text(l.ConstructionText()),
 			workbook.Int(int64(l.StrandsCable)), workbook.Int(int64(t.Cables)), workbook.Number(u.mm(t.Size.ODMM), 1),
@@ -303,7 +302,7 @@ func (r *Result) bomXLSX(opt WriteOptions) ([]byte, error) {
 			loss.Append(row...)
 		}
 	}
-	return wb.Bytes()
+	return wb.BytesContext(ctx)
 }
 
 // odsHeader names the duct fill sheet's diameters column: the cables', or the innerducts'

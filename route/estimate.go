@@ -1,6 +1,7 @@
 package route
 
 import (
+	"context"
 	"fmt"
 	"math"
 	"sort"
@@ -227,21 +228,29 @@ func (r *Result) fibre(l *Leg) bool {
 
 // estimate builds the installation takeoff and prices it: pulling plans, duct fill,
 // connectivity, construction and the bill of materials. A price the plan needs and the
-// book lacks is an error naming its key.
-func (r *Result) estimate() error {
+// book lacks is an error naming its key. When ctx is done it returns ctx's error.
+func (r *Result) estimate(ctx context.Context) error {
 	e := &Estimate{}
 	r.Estimate = e
 	added := map[string]bool{}
 	for i := range r.Legs {
+		if err := stopEvery(ctx, i); err != nil {
+			return err
+		}
 		if r.Legs[i].Feasible {
 			r.pullPlan(i, added)
 		}
 	}
 	e.AddedPullPoints = len(added)
-	r.ductFill()
-	r.connectivity()
-	r.construction()
-	r.quantities()
+	for _, step := range []func(){r.ductFill, r.connectivity, r.construction, r.quantities} {
+		if err := ctx.Err(); err != nil {
+			return err
+		}
+		step()
+	}
+	if err := ctx.Err(); err != nil {
+		return err
+	}
 	bom, err := r.Engine.PriceBook().Bill(e.Quantities)
 	if err != nil {
 		return fmt.Errorf("bill of materials: %w", err)

@@ -463,7 +463,7 @@ func TestMissingPriceNamed(t *testing.T) {
 func TestBOMOutputsAddUp(t *testing.T) {
 	t.Parallel()
 	r := demoResult(t)
-	files, err := r.Outputs(WriteOptions{})
+	files, err := r.Outputs(context.Background(), WriteOptions{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -574,7 +574,7 @@ func TestBOMWorkbook(t *testing.T) {
 	b := r.Estimate.BOM
 	for _, opt := range []WriteOptions{{}, {Units: UnitsImperial}} {
 		t.Run("units "+opt.Units, func(t *testing.T) {
-			files, err := r.Outputs(opt)
+			files, err := r.Outputs(context.Background(), opt)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -651,7 +651,7 @@ func TestBOMWorkbook(t *testing.T) {
 func TestImperialEdges(t *testing.T) {
 	t.Parallel()
 	r := demoResult(t)
-	files, err := r.Outputs(WriteOptions{Units: UnitsImperial})
+	files, err := r.Outputs(context.Background(), WriteOptions{Units: UnitsImperial})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -787,7 +787,7 @@ func TestBOMWorkbookOpenpyxl(t *testing.T) {
 		t.Skip("python3-openpyxl not installed (apt-get install python3-openpyxl)")
 	}
 	r := demoResult(t)
-	files, err := r.Outputs(WriteOptions{})
+	files, err := r.Outputs(context.Background(), WriteOptions{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -1080,7 +1080,7 @@ func TestEntranceTransition(t *testing.T) {
 	if l, ok := bomLine(b, "splice fibre, entrance transitions"); !ok || l.Work < float64(2*c.Size.Count) {
 		t.Errorf("transition splicing: %+v (found %v), want at least %d splices", l, ok, 2*c.Size.Count)
 	}
-	files, err := tr.Outputs(WriteOptions{SkipWorkbook: true})
+	files, err := tr.Outputs(context.Background(), WriteOptions{SkipWorkbook: true})
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -2,6 +2,7 @@ package route
 
 import (
 	"bytes"
+	"context"
 	"encoding/json"
 	"fmt"
 	"io"
@@ -41,10 +42,14 @@ func (o WriteOptions) lengthCol(name string) (string, func(m float64) string) {
 	return name + "_m", func(m float64) string { return strconv.FormatFloat(m, 'f', 1, 64) }
 }
 
-// Outputs renders every output file of the result in memory.
-func (r *Result) Outputs(opt WriteOptions) ([]OutputFile, error) {
-	routes, err := r.routesGeoJSON()
+// Outputs renders every output file of the result in memory. When ctx is done it returns
+// ctx's error and no file.
+func (r *Result) Outputs(ctx context.Context, opt WriteOptions) ([]OutputFile, error) {
+	routes, err := r.routesGeoJSON(ctx)
 	if err != nil {
+		return nil, err
+	}
+	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
 	links, err := r.linksCSV(opt)
@@ -60,6 +65,9 @@ func (r *Result) Outputs(opt WriteOptions) ([]OutputFile, error) {
 		{Name: "links.csv", Data: links},
 		{Name: "summary.json", Data: sum},
 	}
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
 	if r.Estimate == nil || r.Estimate.BOM == nil {
 		return files, nil
 	}
@@ -69,7 +77,10 @@ func (r *Result) Outputs(opt WriteOptions) ([]OutputFile, error) {
 	}
 	files = append(files, OutputFile{Name: "bom.csv", Data: bom})
 	if !opt.SkipWorkbook {
-		xl, err := r.bomXLSX(opt)
+		xl, err := r.bomXLSX(ctx, opt)
+		if ctx.Err() != nil {
+			return nil, ctx.Err()
+		}
 		if err != nil {
 			return nil, fmt.Errorf("bom.xlsx: %w", err)
 		}
@@ -90,13 +101,14 @@ func (r *Result) Inputs() []string {
 	return in
 }
 
-// Write renders the outputs and writes them atomically into dir.
-func (r *Result) Write(dir string, opt WriteOptions) error {
-	files, err := r.Outputs(opt)
+// Write renders the outputs and writes them atomically into dir; when ctx is done it writes
+// nothing and returns ctx's error (see WriteFiles).
+func (r *Result) Write(ctx context.Context, dir string, opt WriteOptions) error {
+	files, err := r.Outputs(ctx, opt)
 	if err != nil {
 		return err
 	}
-	return WriteFiles(dir, files, r.Inputs())
+	return WriteFiles(ctx, dir, files, r.Inputs())
 }
 
 func round1(x float64) float64 {
@@ -157,9 +169,12 @@ func round2(x float64) float64 {
 	return v
 }
 
-func (r *Result) routesGeoJSON() ([]byte, error) {
+func (r *Result) routesGeoJSON(ctx context.Context) ([]byte, error) {
 	var feats []geo.RouteFeature
 	for i := range r.Legs {
+		if err := stopEvery(ctx, i); err != nil {
+			return nil, err
+		}
 		l := &r.Legs[i]
 		if !l.Feasible {
 			continue
@@ -192,7 +207,7 @@ func (r *Result) routesGeoJSON() ([]byte, error) {
 		feats = append(feats, geo.RouteFeature{FromBuilding: l.Link.To, ToBuilding: l.Link.From, Steps: l.Steps, Props: props})
 	}
 	var buf bytes.Buffer
-	if err := r.Site.Net.WriteRoutes(&buf, feats); err != nil {
+	if err := r.Site.Net.WriteRoutesContext(ctx, &buf, feats); err != nil {
 		return nil, err
 	}
 	return buf.Bytes(), nil

@@ -1,6 +1,7 @@
 package route
 
 import (
+	"context"
 	"strings"
 	"testing"
 )
@@ -22,7 +23,7 @@ func TestLinksCSVPayloads(t *testing.T) {
 	for k := range leg.Losses {
 		leg.Losses[k].MarginDB = -12.5
 	}
-	files, err := r.Outputs(WriteOptions{SkipWorkbook: true})
+	files, err := r.Outputs(context.Background(), WriteOptions{SkipWorkbook: true})
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -1,6 +1,7 @@
 package route
 
 import (
+	"context"
 	"io/fs"
 	"sort"
 	"sync"
@@ -37,11 +38,12 @@ const pullCacheSize = 8192
 
 // solve runs the optimizer, or returns the solution of an identical problem solved before on
 // this site. Solve is deterministic, so the answer is the same either way; the returned
-// solution is shared and must not be modified.
+// solution is shared and must not be modified. A solve stopped by ctx returns ctx's error and
+// is not remembered.
 //
 // The optimizer sees the problem in canonical order (canon.go), so that the plan depends on
 // the campus's geometry and costs, not on the names of its ids.
-func (s *Site) solve(prob *optimize.Problem, opt optimize.Settings) (*optimize.Solution, error) {
+func (s *Site) solve(ctx context.Context, prob *optimize.Problem, opt optimize.Settings) (*optimize.Solution, error) {
 	c := canonicalize(prob, func(n int) [2]float64 { return s.Net.Junctions[n].Point })
 	key, ok := optimize.Fingerprint(c.prob, opt)
 	if ok {
@@ -49,7 +51,7 @@ func (s *Site) solve(prob *optimize.Problem, opt optimize.Settings) (*optimize.S
 			return c.back(sol), nil
 		}
 	}
-	sol, err := optimize.Solve(c.prob, opt)
+	sol, err := optimize.SolveContext(ctx, c.prob, opt)
 	if err != nil {
 		return nil, err
 	}
@@ -68,19 +70,20 @@ type SiteOptions struct {
 }
 
 // LoadSite reads the campus files and builds the network. fsys, when not nil, is read
-// instead of the disk (the embedded demo).
-func LoadSite(fsys fs.FS, files []string, opt SiteOptions) (*Site, error) {
+// instead of the disk (the embedded demo). When ctx is done, reading and building stop and
+// LoadSite returns ctx's error.
+func LoadSite(ctx context.Context, fsys fs.FS, files []string, opt SiteOptions) (*Site, error) {
 	var c *geo.Campus
 	var err error
 	if fsys != nil {
-		c, err = geo.LoadFS(fsys, files)
+		c, err = geo.LoadFSContext(ctx, fsys, files)
 	} else {
-		c, err = geo.LoadLimit(files, opt.MaxInputBytes)
+		c, err = geo.LoadLimitContext(ctx, files, opt.MaxInputBytes)
 	}
 	if err != nil {
 		return nil, err
 	}
-	net, err := geo.Build(c, geo.Options{SnapM: opt.SnapM, MaxLateralM: opt.MaxLateralM})
+	net, err := geo.BuildContext(ctx, c, geo.Options{SnapM: opt.SnapM, MaxLateralM: opt.MaxLateralM})
 	if err != nil {
 		return nil, err
 	}

@@ -175,7 +175,7 @@ func TestSolvedCache(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		files, err := res.Outputs(WriteOptions{SkipWorkbook: true})
+		files, err := res.Outputs(context.Background(), WriteOptions{SkipWorkbook: true})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -215,7 +215,7 @@ func demoSiteFresh(tb testing.TB) (*Site, *Plan) {
 	for i, f := range p.Campus {
 		files[i] = p.Path(f)
 	}
-	s, err := LoadSite(nil, files, SiteOptions{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM})
+	s, err := LoadSite(context.Background(), nil, files, SiteOptions{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM})
 	if err != nil {
 		tb.Fatal(err)
 	}

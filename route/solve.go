@@ -181,13 +181,17 @@ func Solve(ctx context.Context, s *Site, p *Plan) (*Result, error) {
 // SolveWith plans p on the site: resolves the hub and links, checks that every building
 // served can reach the hub, routes every leg and chooses its medium with the optimizer and
 // the engine. Input problems come back together as one error; infeasible legs do not stop
-// the plan (see Result.Infeasible).
+// the plan (see Result.Infeasible). When ctx is done, the optimizer, the media choice and
+// the estimate stop within a step and SolveWith returns ctx's error and no result.
 func SolveWith(ctx context.Context, s *Site, p *Plan, eng *media.Engine) (*Result, error) {
 	hub, err := s.Hub(p)
 	if err != nil {
 		return nil, err
 	}
 	links, errs := s.Links(p, hub)
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
 	cat := eng.Catalog()
 	for _, l := range links {
 		if _, err := cat.ParseRate(l.Rate); err != nil {
@@ -216,8 +220,14 @@ func SolveWith(ctx context.Context, s *Site, p *Plan, eng *media.Engine) (*Resul
 	if err != nil {
 		return nil, err
 	}
-	sol, err := s.solve(prob, optimize.Settings{Objective: p.Design.Objective})
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	sol, err := s.solve(ctx, prob, optimize.Settings{Objective: p.Design.Objective})
 	if err != nil {
+		if ctx.Err() != nil {
+			return nil, ctx.Err()
+		}
 		return nil, fmt.Errorf("route: optimizer: %w", err)
 	}
 	r := &Result{Plan: p, Site: s, Hub: hub, Links: links, Currency: eng.PriceBook().Currency, Engine: eng}
@@ -233,9 +243,12 @@ func SolveWith(ctx context.Context, s *Site, p *Plan, eng *media.Engine) (*Resul
 		infeasible[in.Demand] = in.Reason
 	}
 	for i := range links {
+		if err := stopEvery(ctx, i); err != nil {
+			return nil, err
+		}
 		r.Legs = append(r.Legs, s.legsOf(cm, prob, &sol.Routes[i], &r.Links[i], infos[i], infeasible[i])...)
 	}
-	if err := r.estimate(); err != nil {
+	if err := r.estimate(ctx); err != nil {
 		return nil, err
 	}
 	return r, nil

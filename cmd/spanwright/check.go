@@ -44,10 +44,10 @@ func runCheck(ctx context.Context, args []string, maxBytes int64, opt route.Writ
 		if perr != nil {
 			return perr
 		}
-		site, err = route.LoadSite(nil, campusPaths(p), siteOptions(p))
+		site, err = route.LoadSite(ctx, nil, campusPaths(p), siteOptions(p))
 		hub = p.Hub
 	} else {
-		site, err = route.LoadSite(nil, args, route.SiteOptions{SnapM: route.PlanDefaults.Design.SnapM,
+		site, err = route.LoadSite(ctx, nil, args, route.SiteOptions{SnapM: route.PlanDefaults.Design.SnapM,
 			MaxLateralM: route.PlanDefaults.Design.MaxLateralM, MaxInputBytes: maxBytes})
 	}
 	if err != nil {

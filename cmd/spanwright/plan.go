@@ -2,6 +2,7 @@ package main
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"io"
 	"io/fs"
@@ -50,24 +51,33 @@ func planCommand() *cli.Command {
 }
 
 // runPlan plans p (its campus read from fsys when not nil) and writes the outputs to out.
-func runPlan(ctx context.Context, fsys fs.FS, p *route.Plan, out string, opt route.WriteOptions, w io.Writer) error {
-	site, err := route.LoadSite(fsys, campusPaths(p), siteOptions(p))
+// When ctx is done before the outputs are renamed into place, it writes nothing and returns
+// an error wrapping ctx's.
+func runPlan(ctx context.Context, fsys fs.FS, p *route.Plan, out string, opt route.WriteOptions, w io.Writer) (err error) {
+	defer func() {
+		if err != nil && ctx.Err() != nil && errors.Is(err, ctx.Err()) {
+			err = fmt.Errorf("stopped, nothing written: %w", err)
+		}
+	}()
+	site, err := route.LoadSite(ctx, fsys, campusPaths(p), siteOptions(p))
 	if err != nil {
 		return err
 	}
+	stage("loaded")
 	res, err := route.Solve(ctx, site, p)
 	if err != nil {
 		return err
 	}
-	files, err := res.Outputs(opt)
+	stage("planned")
+	files, err := res.Outputs(ctx, opt)
 	if err != nil {
 		return err
 	}
-	rep, err := report.File(res, report.Options{Units: opt.Units})
+	rep, err := report.File(ctx, res, report.Options{Units: opt.Units})
 	if err != nil {
 		return err
 	}
-	if err := route.WriteFiles(out, append(files, rep), res.Inputs()); err != nil {
+	if err := route.WriteFiles(ctx, out, append(files, rep), res.Inputs()); err != nil {
 		return err
 	}
 	if err := res.PrintSummary(w, opt); err != nil {
@@ -76,6 +86,10 @@ func runPlan(ctx context.Context, fsys fs.FS, p *route.Plan, out string, opt rou
 	fmt.Fprintf(w, "outputs written to %s\n", escape.Terminal(out))
 	return res.Infeasible()
 }
+
+// stage is told when runPlan has read the campus ("loaded") and planned ("planned"); it does
+// nothing but in the tests that stop a plan at a known point (signal_test.go).
+var stage = func(string) {}
 
 // overrideFiles points the plan at the files named on the command line; they are relative
 // to the working folder, not to the plan.

@@ -1,8 +1,12 @@
 package main
 
 import (
+	"bufio"
+	"bytes"
+	"context"
 	"errors"
 	"fmt"
+	"io"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -11,17 +15,27 @@ import (
 	"testing"
 	"time"
 
+	"spanwright/geo/ctxtest"
 	"spanwright/route"
 )
 
 // TestMain lets a test run the real main, signal handling included, in a child process: the
-// test binary runs main when SPANWRIGHT_AS_MAIN is set, with its arguments as the command line
-// (and, when SPANWRIGHT_STEP_DELAY holds a duration, a pause before each step of writing).
+// test binary runs main when SPANWRIGHT_AS_MAIN is set, with its arguments as the command line;
+// when SPANWRIGHT_STEP_DELAY holds a duration, with a pause before each step of writing, and
+// with SPANWRIGHT_TEST_STAGE set it prints "stage NAME" on stderr when runPlan reaches it.
 func TestMain(m *testing.M) {
 	if os.Getenv("SPANWRIGHT_AS_MAIN") == "1" {
 		if d, err := time.ParseDuration(os.Getenv("SPANWRIGHT_STEP_DELAY")); err == nil {
 			// Widen the window in which a kill finds the outputs half written.
 			route.WriteHook = func(string, string) error { time.Sleep(d); return nil }
+		}
+		if at := os.Getenv("SPANWRIGHT_TEST_STAGE"); at != "" {
+			// Say on stderr when runPlan reaches the stage, for the test to signal then.
+			stage = func(s string) {
+				if s == at {
+					fmt.Fprintln(os.Stderr, "stage "+s)
+				}
+			}
 		}
 		os.Args = append([]string{"spanwright"}, os.Args[1:]...)
 		main()
@@ -112,6 +126,194 @@ func TestSweepStopsOnSignal(t *testing.T) {
 		b, _ := os.ReadFile(filepath.Join(fresh, f))
 		if len(a) == 0 || string(a) != string(b) {
 			t.Errorf("%s after an interrupted sweep and --resume differs from a fresh sweep's", f)
+		}
+	}
+}
+
+// gridCampus writes a campus of about n buildings as GeoJSON: streets on a grid of 120 m
+// blocks, one existing duct pathway per block side, a building 12 m off the middle of each
+// side reached by a lateral, a proposed trench across every seventh block, and the mc near
+// the middle. Names and places are invented.
+func gridCampus(n int) []byte {
+	g := 2
+	for 2*g*(g-1) < n {
+		g++
+	}
+	const stepM = 120.0
+	ll := func(xM, yM float64) string { // about 40° N, where a degree of longitude is 85.3 km
+		return fmt.Sprintf("[%.7f,%.7f]", -75+xM/85276, 40+yM/110540)
+	}
+	var feats []string
+	line := func(props string, pts ...[2]float64) {
+		var cs []string
+		for _, p := range pts {
+			cs = append(cs, ll(p[0], p[1]))
+		}
+		feats = append(feats, fmt.Sprintf(`{"type":"Feature","properties":{%s},"geometry":{"type":"LineString","coordinates":[%s]}}`, props, strings.Join(cs, ",")))
+	}
+	built := 0
+	building := func(x, y float64) {
+		if built >= n {
+			return
+		}
+		role := ""
+		if built == n/2 {
+			role = `,"role":"mc"`
+		}
+		sq := []string{ll(x-8, y-8), ll(x+8, y-8), ll(x+8, y+8), ll(x-8, y+8), ll(x-8, y-8)}
+		feats = append(feats, fmt.Sprintf(`{"type":"Feature","properties":{"kind":"building","id":"G%05d"%s},"geometry":{"type":"Polygon","coordinates":[[%s]]}}`,
+			built, role, strings.Join(sq, ",")))
+		built++
+	}
+	for i := 0; i < g; i++ {
+		for j := 0; j < g; j++ {
+			x, y := float64(i)*stepM, float64(j)*stepM
+			if i+1 < g {
+				line(fmt.Sprintf(`"kind":"pathway","id":"E%d-%d","spare_ducts":2`, i, j), [2]float64{x, y}, [2]float64{x + stepM, y})
+				building(x+stepM/2, y+20)
+			}
+			if j+1 < g {
+				line(fmt.Sprintf(`"kind":"pathway","id":"N%d-%d","spare_ducts":2`, i, j), [2]float64{x, y}, [2]float64{x, y + stepM})
+				building(x+20, y+stepM/2)
+			}
+			if i+1 < g && j+1 < g && (i*g+j)%7 == 3 {
+				line(fmt.Sprintf(`"kind":"pathway","id":"P%d-%d","status":"proposed","type":"buried","surface":"turf"`, i, j),
+					[2]float64{x, y}, [2]float64{x + stepM, y + stepM})
+			}
+		}
+	}
+	return []byte(`{"type":"FeatureCollection","features":[` + strings.Join(feats, ",\n") + "]}\n")
+}
+
+// TestPlanStopsOnSignal stops `plan` on a generated 1,000-building campus with SIGTERM at
+// three points: just after the campus is read, 300 ms later (in the optimizer) and just after
+// planning (while the outputs are rendered). Each time it must exit 143 (128 +
+// SIGTERM, the shell's convention) within a second of the signal, and leave --out without
+// any output or temporary file. The bound is asserted loosely (1.5 s) against slow machines;
+// the measured time is logged.
+func TestPlanStopsOnSignal(t *testing.T) {
+	if testing.Short() {
+		t.Skip("plans a 1,000-building campus")
+	}
+	t.Parallel()
+	dir := t.TempDir()
+	if err := os.WriteFile(filepath.Join(dir, "campus.geojson"), gridCampus(1000), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	plan := filepath.Join(dir, "plan.yaml")
+	if err := os.WriteFile(plan, []byte("name: grid\ncampus: [campus.geojson]\ndesign: {allow_new_trench: true}\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	for _, tc := range []struct {
+		stage string
+		after time.Duration
+	}{{"loaded", 0}, {"loaded", 300 * time.Millisecond}, {"planned", 0}} {
+		t.Run(fmt.Sprintf("%s+%v", tc.stage, tc.after), func(t *testing.T) {
+			out := filepath.Join(dir, "out-"+tc.stage+tc.after.String())
+			if err := os.Mkdir(out, 0o755); err != nil {
+				t.Fatal(err)
+			}
+			cmd := exec.Command(os.Args[0], "plan", plan, "--out", out)
+			cmd.Env = append(os.Environ(), "SPANWRIGHT_AS_MAIN=1", "SPANWRIGHT_TEST_STAGE="+tc.stage)
+			stderr, err := cmd.StderrPipe()
+			if err != nil {
+				t.Fatal(err)
+			}
+			if err := cmd.Start(); err != nil {
+				t.Fatal(err)
+			}
+			sc := bufio.NewScanner(stderr)
+			var rest strings.Builder
+			reached := false
+			for sc.Scan() {
+				if sc.Text() == "stage "+tc.stage {
+					reached = true
+					break
+				}
+				rest.WriteString(sc.Text() + "\n")
+			}
+			if !reached {
+				cmd.Wait()
+				t.Fatalf("the plan never reached %q; stderr:\n%s", tc.stage, rest.String())
+			}
+			time.Sleep(tc.after)
+			sent := time.Now()
+			if err := cmd.Process.Signal(syscall.SIGTERM); err != nil {
+				t.Fatal(err)
+			}
+			go io.Copy(&rest, stderr)
+			err = cmd.Wait()
+			took := time.Since(sent)
+			t.Logf("exited %v after SIGTERM", took.Round(time.Millisecond))
+			var ee *exec.ExitError
+			if err == nil {
+				t.Fatalf("the plan finished (exit 0) after SIGTERM, in %v", took)
+			}
+			if !errors.As(err, &ee) || ee.ExitCode() != 143 {
+				t.Fatalf("got %v, want exit status 143; stderr:\n%s", err, rest.String())
+			}
+			if took > 1500*time.Millisecond {
+				t.Errorf("exit %v after SIGTERM, want within a second (1.5 s allowed for slow machines)", took)
+			}
+			ents, err := os.ReadDir(out)
+			if err != nil {
+				t.Fatal(err)
+			}
+			for _, e := range ents {
+				t.Errorf("%s written by a stopped plan", e.Name())
+			}
+		})
+	}
+}
+
+// TestStoppedCommandsWriteNothing runs plan, demo and check with a context cancelled at the
+// first, a quarter, half, three quarters and the last of the looks a whole run takes at it:
+// each returns context.Canceled (which main turns into 130 or 143), prints no summary, and
+// plan and demo say they stopped and leave no file in the output folder.
+func TestStoppedCommandsWriteNothing(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	for _, tc := range []struct {
+		name string
+		args []string
+	}{
+		{"plan", []string{"plan", "../../testdata/demo/plan.yaml", "--out"}},
+		{"demo", []string{"demo", "--out"}},
+		{"check", []string{"check", "../../testdata/demo/plan.yaml"}},
+	} {
+		runWith := func(ctx context.Context, out string) (string, error) {
+			app := newApp()
+			var stdout bytes.Buffer
+			app.Writer, app.ErrWriter = &stdout, io.Discard
+			args := tc.args
+			if tc.name != "check" {
+				args = append(append([]string(nil), args...), out)
+			}
+			err := app.RunContext(ctx, intersperse(app, append([]string{"spanwright"}, args...)))
+			return stdout.String(), err
+		}
+		count := ctxtest.New(0)
+		if _, err := runWith(count, filepath.Join(dir, tc.name+"-whole")); err != nil && exitCode(err) != exitInfeasible {
+			t.Fatalf("%s: %v", tc.name, err)
+		}
+		total := count.Looks()
+		for _, at := range []int64{1, total / 4, total / 2, 3 * total / 4, total} {
+			out := filepath.Join(dir, fmt.Sprintf("%s-%d", tc.name, at))
+			stdout, err := runWith(ctxtest.New(at), out)
+			if !errors.Is(err, context.Canceled) {
+				t.Errorf("%s cancelled at look %d of %d: got %v, want context.Canceled", tc.name, at, total, err)
+				continue
+			}
+			if tc.name != "check" && !strings.Contains(err.Error(), "stopped, nothing written") {
+				t.Errorf("%s cancelled at look %d of %d: the error %q does not say nothing was written", tc.name, at, total, err)
+			}
+			if strings.Contains(stdout, "total") || strings.Contains(stdout, "outputs written") || strings.Contains(stdout, "buildings") {
+				t.Errorf("%s cancelled at look %d of %d printed a summary:\n%s", tc.name, at, total, stdout)
+			}
+			// The folder itself may have been made: the last look is just before the renames.
+			if ents, _ := os.ReadDir(out); len(ents) > 0 {
+				t.Errorf("%s cancelled at look %d of %d: %s holds %s, want nothing written", tc.name, at, total, out, ents[0].Name())
+			}
 		}
 	}
 }

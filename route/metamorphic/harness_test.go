@@ -65,7 +65,7 @@ func outputs(t *testing.T, sc scenario) (map[string][]byte, *route.Result) {
 	if err != nil {
 		t.Fatalf("seed %d: plan: %v", sc.seed, err)
 	}
-	site, err := route.LoadSite(fsys, p.Campus, route.SiteOptions{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM})
+	site, err := route.LoadSite(context.Background(), fsys, p.Campus, route.SiteOptions{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM})
 	if err != nil {
 		t.Fatalf("seed %d: campus: %v", sc.seed, err)
 	}
@@ -73,11 +73,11 @@ func outputs(t *testing.T, sc scenario) (map[string][]byte, *route.Result) {
 	if err != nil {
 		t.Errorf("seed %d: solve: %v", sc.seed, err)
 	}
-	files, err := res.Outputs(route.WriteOptions{Units: route.UnitsMetric})
+	files, err := res.Outputs(context.Background(), route.WriteOptions{Units: route.UnitsMetric})
 	if err != nil {
 		t.Fatalf("seed %d: outputs: %v", sc.seed, err)
 	}
-	rep, err := report.File(res, report.Options{Units: route.UnitsMetric})
+	rep, err := report.File(context.Background(), res, report.Options{Units: route.UnitsMetric})
 	if err != nil {
 		t.Fatalf("seed %d: report: %v", sc.seed, err)
 	}

@@ -97,6 +97,9 @@ func (sv *solver) keepOrRevert(ds []int32, olds []choice, before key) bool {
 func (sv *solver) closeMoves() bool {
 	changed := false
 	for _, e := range sv.proposed {
+		if sv.stopped() {
+			break
+		}
 		st := sv.st
 		if st.count[e] == 0 {
 			continue
@@ -405,6 +408,9 @@ func (sv *solver) openMoves() bool {
 	tried := map[uint64]bool{}
 	sv.sbVer++
 	for _, c := range sv.openCandidates() {
+		if sv.stopped() {
+			break
+		}
 		st := sv.st
 		var openCost int64
 		sig := mix(0, 11)
@@ -453,6 +459,9 @@ func (sv *solver) openMoves() bool {
 		sv.ord = ord
 		var gain int64
 		for _, i := range ord {
+			if sv.stopped() {
+				break
+			}
 			gain += sv.estimateFor(c.key, int(c.affected[i]))
 			bound -= bounds[i]
 			if gain > openCost || gain+bound <= openCost {
@@ -501,11 +510,14 @@ func (sv *solver) openMoves() bool {
 func (sv *solver) improve() int {
 	rounds := 0
 	moves := !sv.length && len(sv.proposed) > 0
-	for rounds < sv.maxRounds {
+	for rounds < sv.maxRounds && !sv.stopped() {
 		rounds++
 		sv.roundNo++
 		changed := false
 		for d := range sv.p.Demands {
+			if sv.stopped() {
+				break
+			}
 			if sv.reroute(d) {
 				changed = true
 			}
@@ -533,6 +545,9 @@ func (sv *solver) start(open bool) {
 		sv.setPhantom(e, open)
 	}
 	for d := range sv.p.Demands {
+		if sv.stopped() {
+			break
+		}
 		sv.place(d)
 	}
 	for _, e := range sv.proposed {
@@ -575,7 +590,7 @@ func (sv *solver) place(d int) {
 func (sv *solver) run() {
 	sv.start(false)
 	sv.rounds = sv.improve()
-	if sv.length || len(sv.proposed) == 0 {
+	if sv.length || len(sv.proposed) == 0 || sv.stopped() {
 		return
 	}
 	if len(sv.p.Demands)*len(sv.proposed) > maxSecondStart {
@@ -585,6 +600,9 @@ func (sv *solver) run() {
 	first := sv.st
 	sv.start(true)
 	sv.rounds += sv.improve()
+	if sv.stopped() {
+		return
+	}
 	if !sv.key().less(first.key()) {
 		second := sv.st
 		sv.st = first
@@ -632,7 +650,7 @@ func (sv *solver) kicks() {
 	was := sv.plainBounds
 	sv.plainBounds = true
 	defer func() { sv.plainBounds = was }()
-	for pass := 0; pass < sv.maxRounds; pass++ {
+	for pass := 0; pass < sv.maxRounds && !sv.stopped(); pass++ {
 		improved := false
 		var all []int32
 		for d := range sv.p.Demands {
@@ -654,6 +672,9 @@ func (sv *solver) kicks() {
 			}
 		}
 		for _, k := range ks {
+			if sv.stopped() {
+				return
+			}
 			before := sv.key()
 			saved := slices.Clone(sv.st.ch)
 			// The demands the kick may move: a closed edge's users; for an opened run, those

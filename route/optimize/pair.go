@@ -185,7 +185,7 @@ func (sv *solver) groupPair(s, t int, wt func(e int32) (int64, bool), h heuristi
 		legs    [2][]Hop
 	}
 	queue := []node{{legs: res.legs}}
-	for tries := 1; len(queue) > 0 && tries < maxPairTries; {
+	for tries := 1; len(queue) > 0 && tries < maxPairTries && !sv.stopped(); {
 		n := queue[0]
 		queue = queue[1:]
 		g := sv.sharedGroup(n.legs)

@@ -38,6 +38,7 @@ type rcspScratch struct {
 	minSeen []uint32
 	stamp   uint32
 	fs      *search[float64]
+	stop    stopper // the solver's stopped: larac and labelSearch give up when it says so
 }
 
 func newRCSPScratch(net *Network) *rcspScratch {
@@ -61,7 +62,7 @@ func pathEval(net *Network, hops []Hop, w func(e int32) (int64, bool)) (cost, le
 func larac(net *Network, sc *rcspScratch, s, t int, limitMM int64, w func(e int32) (int64, bool), hCost, hLen []int64, pc, pd []Hop) []Hop {
 	cc, dc := pathEval(net, pc, w)
 	cd, dd := pathEval(net, pd, w)
-	for iter := 0; iter < 40 && dc > dd && cd > cc; iter++ {
+	for iter := 0; iter < 40 && dc > dd && cd > cc && !sc.stop.stop(); iter++ {
 		lambda := float64(cd-cc) / float64(dc-dd)
 		lw := func(e int32) (float64, bool) {
 			c, ok := w(e)
@@ -90,7 +91,8 @@ func larac(net *Network, sc *rcspScratch, s, t int, limitMM int64, w func(e int3
 }
 
 // labelSearch returns the cheapest path from s to t of length at most limitMM under w, or
-// ok=false when none exists; exhausted reports that maxLabels was reached first. hCost[v] must
+// ok=false when none exists; exhausted reports that maxLabels was reached first, or that
+// sc.stop said to give up. hCost[v] must
 // be a lower bound of the cost from v to t under w, consistent (hCost[u] <= w(u,v) + hCost[v]),
 // with -1 for nodes that cannot reach t; hLen[v] a lower bound of the length from v to t.
 // ubCost is a cost no optimal path exceeds (math.MaxInt64 when unknown).
@@ -108,7 +110,10 @@ func labelSearch(net *Network, sc *rcspScratch, s, t int, limitMM int64, w func(
 	}
 	sc.labels = append(sc.labels, label{node: int32(s), edge: -1, prev: -1})
 	sc.heap.push(hCost[s], 0)
-	for sc.heap.len() > 0 {
+	for pops := 1; sc.heap.len() > 0; pops++ {
+		if pops%labelCheckEvery == 0 && sc.stop.stop() {
+			return nil, false, true // stopped: the caller keeps its LARAC path, and the solve ends
+		}
 		_, li := sc.heap.pop()
 		L := sc.labels[li]
 		u := L.node

@@ -1,6 +1,7 @@
 package optimize
 
 import (
+	"context"
 	"math"
 	"slices"
 )
@@ -44,11 +45,25 @@ import (
 // searches, each O(|E| log |V|) at worst and usually far less; the exact reach search is
 // exponential in the worst case and capped at maxLabels labels.
 func Solve(p *Problem, opt Settings) (*Solution, error) {
+	return SolveContext(context.Background(), p, opt)
+}
+
+// SolveContext is Solve that gives up when ctx is done: it then returns ctx's error and no
+// solution, within one search step (see stop.go). A ctx that is never done gives the same
+// Solution as Solve.
+func SolveContext(ctx context.Context, p *Problem, opt Settings) (*Solution, error) {
 	if err := validate(p, opt); err != nil {
 		return nil, err
 	}
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
 	sv := newSolver(p, opt)
+	sv.ctx = ctx
 	sv.run()
+	if sv.stopped() {
+		return nil, ctx.Err()
+	}
 	return sv.solution(), nil
 }
 
@@ -59,6 +74,8 @@ type profile struct {
 }
 
 type solver struct {
+	ctx       context.Context // SolveContext's; see stopped
+	halted    bool            // ctx was found done
 	p         *Problem
 	net       *Network
 	length    bool
@@ -157,7 +174,7 @@ func newSolver(p *Problem, opt Settings) *solver {
 	net := NewNetwork(p.Nodes, p.Edges)
 	ne := len(p.Edges)
 	sv := &solver{
-		p: p, net: net, length: opt.Objective == ObjectiveLength, maxRounds: opt.MaxRounds,
+		ctx: context.Background(), p: p, net: net, length: opt.Objective == ObjectiveLength, maxRounds: opt.MaxRounds,
 		lenClass: map[uint64]int{}, fixedE: make([]int64, ne), limited: make([]bool, ne), tracked: make([]bool, ne),
 		ductCent: make([]int64, ne), groups: map[int][]int32{},
 		propIdx: make([]int32, ne), comps: map[uint64][]int{}, anchorSlot: make([]int32, max(p.Nodes, 0)),
@@ -171,6 +188,7 @@ func newSolver(p *Problem, opt Settings) *solver {
 	if sv.maxRounds == 0 {
 		sv.maxRounds = DefaultMaxRounds
 	}
+	sv.rc.stop = sv.stopped
 	sv.keepTrees = min(8, 20000/max(p.Nodes, 1)) // a few MB of trees at most
 	sv.plainBounds = p.Nodes < planTreeNodes
 	for i := range p.Edges {

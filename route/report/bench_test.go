@@ -20,7 +20,7 @@ func BenchmarkPlan(b *testing.B) {
 	b.Run("demo", func(b *testing.B) {
 		b.ReportAllocs()
 		for b.Loop() {
-			if _, err := Plan(r, Options{}); err != nil {
+			if _, err := Plan(context.Background(), r, Options{}); err != nil {
 				b.Fatal(err)
 			}
 		}
@@ -30,7 +30,7 @@ func BenchmarkPlan(b *testing.B) {
 		b.ReportAllocs()
 		b.ResetTimer()
 		for b.Loop() {
-			if _, err := Plan(r, Options{}); err != nil {
+			if _, err := Plan(context.Background(), r, Options{}); err != nil {
 				b.Fatal(err)
 			}
 		}
@@ -49,7 +49,7 @@ func generated(b *testing.B, n int) *route.Result {
 	if err != nil {
 		b.Fatal(err)
 	}
-	site, err := route.LoadSite(nil, []string{filepath.Join(dir, "campus.geojson")}, route.SiteOptions{})
+	site, err := route.LoadSite(context.Background(), nil, []string{filepath.Join(dir, "campus.geojson")}, route.SiteOptions{})
 	if err != nil {
 		b.Fatal(err)
 	}

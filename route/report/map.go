@@ -1,6 +1,7 @@
 package report
 
 import (
+	"context"
 	"fmt"
 	"html/template"
 	"sort"
@@ -119,7 +120,7 @@ func structureShape(t string) string {
 }
 
 // buildMap draws the campus and the result's feasible legs.
-func buildMap(r *route.Result, opt Options, med map[string]mediumInfo) (mapView, error) {
+func buildMap(ctx context.Context, r *route.Result, opt Options, med map[string]mediumInfo) (mapView, error) {
 	c, net := r.Site.Campus, r.Site.Net
 	var b bounds
 	for _, bd := range c.Buildings {
@@ -232,6 +233,9 @@ func buildMap(r *route.Result, opt Options, med map[string]mediumInfo) (mapView,
 		}
 	}
 	for i := range r.Legs {
+		if i%legCheckEvery == 0 && ctx.Err() != nil {
+			return mapView{}, ctx.Err()
+		}
 		l := &r.Legs[i]
 		if !l.Feasible {
 			continue

@@ -2,6 +2,7 @@ package report
 
 import (
 	"bytes"
+	"context"
 	"fmt"
 	"html/template"
 	"math"
@@ -13,6 +14,7 @@ import (
 	"spanwright/media/install"
 	"spanwright/route"
 	"spanwright/route/escape"
+	"spanwright/route/internal/ctxio"
 )
 
 // FileName is the plan report's file name in a plan's output folder.
@@ -213,22 +215,30 @@ type legend struct {
 }
 
 // Plan renders the report of a planned scenario as one self-contained HTML page. It fails
-// only when a leg's steps do not match the network (a programmer's error upstream).
-func Plan(r *route.Result, opt Options) ([]byte, error) {
-	v, err := planViewOf(r, opt)
+// only when a leg's steps do not match the network (a programmer's error upstream), or with
+// ctx's error when ctx is done before the page is whole.
+func Plan(ctx context.Context, r *route.Result, opt Options) ([]byte, error) {
+	v, err := planViewOf(ctx, r, opt)
 	if err != nil {
 		return nil, err
 	}
 	var b bytes.Buffer
-	if err := templates().ExecuteTemplate(&b, "plan", v); err != nil {
+	err = templates().ExecuteTemplate(ctxio.Writer(ctx, &b), "plan", v)
+	if ctx.Err() != nil {
+		return nil, ctx.Err()
+	}
+	if err != nil {
 		return nil, fmt.Errorf("report: %w", err)
 	}
 	return escape.HTML(b.Bytes()), nil
 }
 
+// legCheckEvery is how many legs the map draws between two looks at the context.
+const legCheckEvery = 64
+
 // File renders the plan report as an output file named FileName.
-func File(r *route.Result, opt Options) (route.OutputFile, error) {
-	data, err := Plan(r, opt)
+func File(ctx context.Context, r *route.Result, opt Options) (route.OutputFile, error) {
+	data, err := Plan(ctx, r, opt)
 	if err != nil {
 		return route.OutputFile{}, err
 	}
@@ -237,9 +247,9 @@ func File(r *route.Result, opt Options) (route.OutputFile, error) {
 
 // Extra returns a hook for route/sweep's Options.Extra that adds the plan report to each
 // scenario's folder.
-func Extra(opt Options) func(*route.Result) ([]route.OutputFile, error) {
-	return func(r *route.Result) ([]route.OutputFile, error) {
-		f, err := File(r, opt)
+func Extra(opt Options) func(context.Context, *route.Result) ([]route.OutputFile, error) {
+	return func(ctx context.Context, r *route.Result) ([]route.OutputFile, error) {
+		f, err := File(ctx, r, opt)
 		if err != nil {
 			return nil, err
 		}
@@ -247,7 +257,7 @@ func Extra(opt Options) func(*route.Result) ([]route.OutputFile, error) {
 	}
 }
 
-func planViewOf(r *route.Result, opt Options) (*planView, error) {
+func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, error) {
 	cat := media.DefaultCatalog()
 	if r.Engine != nil {
 		cat = r.Engine.Catalog()
@@ -340,11 +350,17 @@ func planViewOf(r *route.Result, opt Options) (*planView, error) {
 		med[id] = mediumOf(cat, id)
 	}
 
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
 	v.Costs, v.CostsH = costBars(r)
 	v.Media = mediaRows(r, opt, med, order)
 	v.Wavelength = wavelengths(r)
 	v.ReasonSpan = 11 + len(v.Wavelength)
 	v.Legs, v.Infeasible = legRows(r, opt, med, names, v.Wavelength)
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
 	v.Fill, v.FillOver, v.FillOpen = fillRows(r)
 	v.ModelCost = money(s.ModelCents)
 	if e := r.Estimate; e != nil && e.BOM != nil {
@@ -364,7 +380,10 @@ func planViewOf(r *route.Result, opt Options) (*planView, error) {
 		v.Force = "lbf"
 	}
 	v.Warnings = append([]string(nil), r.Warnings...)
-	m, err := buildMap(r, opt, med)
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	m, err := buildMap(ctx, r, opt, med)
 	if err != nil {
 		return nil, err
 	}

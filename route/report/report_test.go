@@ -40,7 +40,7 @@ func result(t *testing.T, path string) *route.Result {
 	for _, c := range p.Campus {
 		files = append(files, p.Path(c))
 	}
-	site, err := route.LoadSite(nil, files, route.SiteOptions{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM})
+	site, err := route.LoadSite(context.Background(), nil, files, route.SiteOptions{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -54,7 +54,7 @@ func result(t *testing.T, path string) *route.Result {
 
 func render(t *testing.T, path string, opt Options) string {
 	t.Helper()
-	b, err := Plan(result(t, path), opt)
+	b, err := Plan(context.Background(), result(t, path), opt)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -227,7 +227,7 @@ func TestPlanDeterministic(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	site, err := route.LoadSite(nil, []string{p.Path(p.Campus[0])}, route.SiteOptions{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM})
+	site, err := route.LoadSite(context.Background(), nil, []string{p.Path(p.Campus[0])}, route.SiteOptions{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -235,7 +235,7 @@ func TestPlanDeterministic(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	b, err := Plan(r, Options{})
+	b, err := Plan(context.Background(), r, Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -399,14 +399,14 @@ func TestFormat(t *testing.T) {
 // TestExtraAndFile checks the sweep hook and the output file name.
 func TestExtraAndFile(t *testing.T) {
 	r := result(t, markupPlan)
-	files, err := Extra(Options{})(r)
+	files, err := Extra(Options{})(context.Background(), r)
 	if err != nil {
 		t.Fatal(err)
 	}
 	if len(files) != 1 || files[0].Name != FileName {
 		t.Fatalf("Extra: got %d files", len(files))
 	}
-	direct, _ := Plan(r, Options{})
+	direct, _ := Plan(context.Background(), r, Options{})
 	if !bytes.Equal(files[0].Data, direct) {
 		t.Error("Extra's file differs from Plan")
 	}

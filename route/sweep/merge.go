@@ -1,6 +1,7 @@
 package sweep
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"os"
@@ -108,7 +109,7 @@ func Merge(dirs []string, out string, more CompareFunc) (*Report, error) {
 			protect = append(protect, p)
 		}
 	}
-	if err := route.CommitFiles(out, files, protect); err != nil {
+	if err := route.CommitFiles(context.Background(), out, files, protect); err != nil {
 		return nil, err
 	}
 	rep := &Report{Scenarios: head.Scenarios, Run: head.Scenarios}

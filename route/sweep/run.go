@@ -70,8 +70,9 @@ type Options struct {
 	Shard  Shard  // the part of the sweep to run; zero for all
 	Write  route.WriteOptions
 	// Extra, when not nil, renders more files for a planned scenario's folder (a report, a
-	// bill of materials); an error fails that scenario.
-	Extra func(*route.Result) ([]route.OutputFile, error)
+	// bill of materials); an error fails that scenario. ctx is the run's: when it is done,
+	// Extra should return soon, and its answer is not used.
+	Extra func(ctx context.Context, r *route.Result) ([]route.OutputFile, error)
 	// Progress, when not nil, is called after each scenario of the run, one call at a time.
 	Progress func(Progress)
 	// Compare, when not nil, renders more comparison files (a report) for a whole sweep;
@@ -171,7 +172,7 @@ func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
 	// Never replace the sweep file, the base plan or any file a scenario read (the hash
 	// cache holds every one, by absolute path).
 	protect := append(append([]string(nil), r.protect...), r.hashes.c.Keys()...)
-	if err := route.CommitFiles(opt.Out, files, protect); err != nil {
+	if err := route.CommitFiles(ctx, opt.Out, files, protect); err != nil {
 		return rep, err
 	}
 	for _, o := range files {
@@ -467,12 +468,18 @@ func (r *runner) scenario(ctx context.Context, sc Scenario) (outcome, error) {
 		}
 		return fail(err)
 	}
-	files, err := res.Outputs(r.opt.Write)
+	files, err := res.Outputs(ctx, r.opt.Write)
+	if ctx.Err() != nil {
+		return out, ctx.Err()
+	}
 	if err != nil {
 		return fail(err)
 	}
 	if r.opt.Extra != nil {
-		more, err := r.opt.Extra(res)
+		more, err := r.opt.Extra(ctx, res)
+		if ctx.Err() != nil {
+			return out, ctx.Err()
+		}
 		if err != nil {
 			return fail(fmt.Errorf("extra outputs: %w", err))
 		}
@@ -724,7 +731,9 @@ func (r *runner) site(p *route.Plan) (*route.Site, error) {
 		key.WriteString(abs + "\x00")
 	}
 	key.WriteString(strconv.FormatFloat(opt.SnapM, 'g', -1, 64) + "\x00" + strconv.FormatFloat(opt.MaxLateralM, 'g', -1, 64))
-	return r.sites.get(key.String(), func() (*route.Site, error) { return route.LoadSite(nil, files, opt) })
+	// The site is shared by every scenario that reads it and kept with its error, so no one
+	// scenario's stop may end its building: it is built to the end.
+	return r.sites.get(key.String(), func() (*route.Site, error) { return route.LoadSite(context.Background(), nil, files, opt) })
 }
 
 // hash returns the SHA-256 of an input file, read once per sweep.

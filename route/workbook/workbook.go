@@ -4,6 +4,7 @@ import (
 	"archive/zip"
 	"bytes"
 	"compress/flate"
+	"context"
 	"fmt"
 	"io"
 	"io/fs"
@@ -17,6 +18,7 @@ import (
 	"github.com/xuri/excelize/v2"
 
 	"spanwright/route/escape"
+	"spanwright/route/internal/ctxio"
 )
 
 // Column widths, in characters of the default font.
@@ -216,8 +218,14 @@ func (w *Workbook) Sheets() []*Sheet { return w.sheets }
 // one of : \ / ? * [ ]) or a name used twice. Formulas are not checked: a wrong one shows as
 // an error in the spreadsheet program.
 func (w *Workbook) Bytes() ([]byte, error) {
+	return w.BytesContext(context.Background())
+}
+
+// BytesContext is Bytes that gives up when ctx is done, returning ctx's error: it looks at
+// ctx between sheets, every rowCheckEvery rows and at every write of the packed file.
+func (w *Workbook) BytesContext(ctx context.Context) ([]byte, error) {
 	var buf bytes.Buffer
-	if _, err := w.WriteTo(&buf); err != nil {
+	if _, err := w.writeTo(ctx, &buf); err != nil {
 		return nil, err
 	}
 	return buf.Bytes(), nil
@@ -226,19 +234,29 @@ func (w *Workbook) Bytes() ([]byte, error) {
 // WriteTo renders the workbook as .xlsx and writes it to out; errors are those of Bytes and
 // of out.
 func (w *Workbook) WriteTo(out io.Writer) (int64, error) {
-	f, err := w.build()
+	return w.writeTo(context.Background(), out)
+}
+
+func (w *Workbook) writeTo(ctx context.Context, out io.Writer) (int64, error) {
+	f, err := w.build(ctx)
 	if err != nil {
 		return 0, err
 	}
 	defer f.Close()
-	n, err := f.WriteTo(out)
+	n, err := f.WriteTo(ctxio.Writer(ctx, out))
+	if err := ctx.Err(); err != nil {
+		return n, err
+	}
 	if err != nil {
 		return n, fmt.Errorf("workbook: write: %w", err)
 	}
 	return n, nil
 }
 
-func (w *Workbook) build() (*excelize.File, error) {
+// rowCheckEvery is how many rows a sheet renders between two looks at the context.
+const rowCheckEvery = 256
+
+func (w *Workbook) build(ctx context.Context) (*excelize.File, error) {
 	if len(w.sheets) == 0 {
 		return nil, fmt.Errorf("workbook: no sheets")
 	}
@@ -254,13 +272,13 @@ func (w *Workbook) build() (*excelize.File, error) {
 		seen[key] = true
 	}
 	f := excelize.NewFile()
-	f.SetZipWriter(newSortedZip)
-	b := &builder{f: f, styles: map[styleKey]int{}}
+	f.SetZipWriter(func(w io.Writer) excelize.ZipWriter { return newSortedZip(ctx, w) })
+	b := &builder{ctx: ctx, f: f, styles: map[styleKey]int{}}
 	for i, s := range w.sheets {
-		var err error
-		if i == 0 {
+		err := ctx.Err()
+		if err == nil && i == 0 {
 			err = f.SetSheetName(f.GetSheetName(0), s.Name)
-		} else {
+		} else if err == nil {
 			_, err = f.NewSheet(s.Name)
 		}
 		if err == nil {
@@ -295,6 +313,7 @@ type styleKey struct {
 }
 
 type builder struct {
+	ctx    context.Context
 	f      *excelize.File
 	styles map[styleKey]int
 }
@@ -377,6 +396,11 @@ func (b *builder) sheet(s *Sheet) error {
 		}
 	}
 	for r, row := range s.rows {
+		if r%rowCheckEvery == 0 {
+			if err := b.ctx.Err(); err != nil {
+				return err
+			}
+		}
 		vals := make([]any, len(row))
 		for c, cell := range row {
 			v, err := b.value(cell)
@@ -422,19 +446,21 @@ func (b *builder) value(c Cell) (any, error) {
 
 // sortedZip collects the parts excelize writes and stores them in name order when closed:
 // excelize writes streamed sheets in map order, which would change the bytes from run to run.
+// Once ctx is done, every write and the close fail with its error.
 type sortedZip struct {
+	ctx   context.Context
 	w     io.Writer
 	parts map[string]*bytes.Buffer
 }
 
-func newSortedZip(w io.Writer) excelize.ZipWriter {
-	return &sortedZip{w: w, parts: map[string]*bytes.Buffer{}}
+func newSortedZip(ctx context.Context, w io.Writer) excelize.ZipWriter {
+	return &sortedZip{ctx: ctx, w: w, parts: map[string]*bytes.Buffer{}}
 }
 
 func (z *sortedZip) Create(name string) (io.Writer, error) {
 	b := &bytes.Buffer{}
 	z.parts[name] = b
-	return b, nil
+	return ctxio.Writer(z.ctx, b), nil
 }
 
 func (z *sortedZip) AddFS(fs.FS) error {
@@ -454,12 +480,24 @@ func (z *sortedZip) Close() error {
 		if err != nil {
 			return err
 		}
-		if _, err := fw.Write(z.parts[n].Bytes()); err != nil {
-			return err
+		// In pieces, so that a stop ends a large sheet's compression soon; deflate's output
+		// does not depend on how its input is split into writes.
+		w := ctxio.Writer(z.ctx, fw)
+		for data := z.parts[n].Bytes(); ; data = data[partPiece:] {
+			if _, err := w.Write(data[:min(len(data), partPiece)]); err != nil {
+				return err
+			}
+			if len(data) <= partPiece {
+				break
+			}
 		}
 	}
 	return zw.Close()
 }
+
+// partPiece is how many bytes of a part sortedZip compresses between two looks at the
+// context: a few milliseconds of deflate.
+const partPiece = 1 << 18
 
 // flateWriters are reused: a compressor holds about a megabyte of state.
 var flateWriters = sync.Pool{New: func() any {
