@@ -107,7 +107,9 @@ type Entrance struct {
 	Point    orb.Point
 }
 
-// Campus is everything read from one or more GeoJSON files, in input order.
+// Campus is everything read from one or more GeoJSON files, in an order that does not depend
+// on the order of the features or files: buildings, pathways and structures by id, entrances
+// by building and point.
 type Campus struct {
 	Files      []string
 	Buildings  []Building

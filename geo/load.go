@@ -196,6 +196,12 @@ func (l *loader) fileErr(file string, err error) {
 }
 
 func (l *loader) finish() (*Campus, error) {
+	// Entrances in one order before their ids are generated, so that an entrance without an
+	// id gets the same generated id whatever the order of the features and files.
+	slices.SortStableFunc(l.c.Entrances, func(a, b Entrance) int {
+		return cmp.Or(strings.Compare(a.Building, b.Building), cmp.Compare(a.Point[0], b.Point[0]),
+			cmp.Compare(a.Point[1], b.Point[1]), strings.Compare(a.ID, b.ID))
+	})
 	l.checkEntrances()
 	l.checkMC()
 	if l.errs.Len() > 0 {
@@ -207,8 +213,8 @@ func (l *loader) finish() (*Campus, error) {
 }
 
 // sortFeatures puts buildings, pathways and structures in one order whatever the order of the
-// features and files: by id, and structures without an id by their point. Entrances keep file
-// order, since the ids generated for id-less entrances follow it.
+// features and files: by id, and structures without an id by their point. (Entrances are put
+// in order by their building and point before their ids are generated, in finish.)
 func (c *Campus) sortFeatures() {
 	slices.SortStableFunc(c.Buildings, func(a, b Building) int { return strings.Compare(a.ID, b.ID) })
 	slices.SortStableFunc(c.Pathways, func(a, b Pathway) int { return strings.Compare(a.ID, b.ID) })

@@ -362,3 +362,27 @@ func TestLoadRefusesUnboundedInput(t *testing.T) {
 		}
 	}
 }
+
+// TestEntranceIDsFollowPlace: two entrances of one building without ids get the same
+// generated ids at the same places whichever comes first in the file.
+func TestEntranceIDsFollowPlace(t *testing.T) {
+	t.Parallel()
+	bldg := `{"type":"Feature","properties":{"kind":"building","id":"A"},"geometry":{"type":"Polygon","coordinates":[[[7,46],[7.001,46],[7.001,46.001],[7,46.001],[7,46]]]}}`
+	west := `{"type":"Feature","properties":{"kind":"entrance","building":"A"},"geometry":{"type":"Point","coordinates":[7,46.0005]}}`
+	east := `{"type":"Feature","properties":{"kind":"entrance","building":"A"},"geometry":{"type":"Point","coordinates":[7.001,46.0005]}}`
+	idAt := func(order ...string) map[float64]string {
+		c, err := Parse("t.geojson", []byte(`{"type":"FeatureCollection","features":[`+strings.Join(order, ",")+`]}`))
+		if err != nil {
+			t.Fatal(err)
+		}
+		out := map[float64]string{}
+		for i, id := range EntranceIDs(c.Entrances) {
+			out[c.Entrances[i].Point[0]] = id
+		}
+		return out
+	}
+	a, b := idAt(bldg, west, east), idAt(east, bldg, west)
+	if !reflect.DeepEqual(a, b) {
+		t.Errorf("generated entrance ids follow feature order: %v, then %v", a, b)
+	}
+}
