@@ -221,11 +221,11 @@ var rateRE = regexp.MustCompile(`^([0-9]+(?:\.[0-9]+)?)\s*(?:[gG](?:b(?:ps|it/s|
 func (c *Catalog) ParseRate(s string) (float64, error) {
 	m := rateRE.FindStringSubmatch(strings.TrimSpace(s))
 	if m == nil {
-		return 0, fmt.Errorf("%w: rate %q: want a rate such as 10G; the catalog has %s", ErrBadValue, s, rateList(c.Rates()))
+		return 0, input.Errorf(ErrBadValue, "rate %q: want a rate such as 10G; the catalog has %s", s, rateList(c.Rates()))
 	}
 	r, _ := strconv.ParseFloat(m[1], 64)
 	if !containsRate(c.Rates(), r) {
-		return 0, fmt.Errorf("%w: rate %q: no application runs at %s; the catalog has %s", ErrBadValue, s, FormatRate(r), rateList(c.Rates()))
+		return 0, input.Errorf(ErrBadValue, "rate %q: no application runs at %s; the catalog has %s", s, FormatRate(r), rateList(c.Rates()))
 	}
 	return r, nil
 }
@@ -750,7 +750,7 @@ func (c checker) application(ay applicationYAML, item string, cat *Catalog, decl
 // lists every rate; any other rate must be one the catalog offers.
 func (c *Catalog) Table(w io.Writer, rateGbps float64) error {
 	if rateGbps != 0 && !containsRate(c.Rates(), rateGbps) {
-		return fmt.Errorf("%w: no application runs at %s; the catalog has %s", ErrBadValue, FormatRate(rateGbps), rateList(c.Rates()))
+		return input.Errorf(ErrBadValue, "no application runs at %s; the catalog has %s", FormatRate(rateGbps), rateList(c.Rates()))
 	}
 	tw := tabwriter.NewWriter(w, 0, 8, 2, ' ', 0)
 	fmt.Fprintln(tw, "application\trate\twavelength nm\tuses\tmedium\trange m\tmax channel loss dB\tjacket")

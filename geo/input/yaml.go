@@ -73,8 +73,8 @@ type Decoder struct {
 	RangeOf func(path string) (Range, bool)
 	// Class is set on every problem (see Problem.Class).
 	Class error
-	// Where, when not nil, receives the position of every key read, by key path
-	// ("design.slack_m", "links[2].growth"), and of every list element ("links[2]").
+	// Where, when not nil, receives the position of the value of every key read, by key
+	// path ("design.slack_m", "links[2].growth"), and of every list element ("links[2]").
 	Where map[string]Pos
 }
 
@@ -148,7 +148,7 @@ func (d *Decoder) Parse(data []byte, v any) *yaml.Node {
 		return nil
 	}
 	for _, dup := range YAMLDuplicates(&root) {
-		d.Fail(dup.Line, 0, "", dup.Where(), dup.Err())
+		d.Fail(dup.Line, dup.Col, "", dup.Where(), dup.Err())
 	}
 	d.Decode(root.Content[0], v)
 	return root.Content[0]
@@ -286,15 +286,15 @@ func (d *Decoder) structure(n *yaml.Node, v reflect.Value, at loc) {
 		fields[name] = i
 	}
 	p := Mapping{Line: n.Line, Col: n.Column, Keys: map[string]KeyPos{}}
-	for i := 0; i+1 < len(n.Content); i += 2 {
-		k, val := n.Content[i], n.Content[i+1]
+	for _, kv := range pairs(n) {
+		k, val := kv[0], kv[1]
 		kl := at.child(k.Value)
 		if _, dup := p.Keys[k.Value]; dup {
 			continue // reported by Parse
 		}
 		p.Keys[k.Value] = KeyPos{Line: k.Line, Col: k.Column, Value: val}
 		if d.Where != nil {
-			d.Where[kl.path] = Pos{k.Line, k.Column}
+			d.Where[kl.path] = Pos{val.Line, val.Column}
 		}
 		fi, ok := fields[k.Value]
 		if !ok {
@@ -312,6 +312,45 @@ func (d *Decoder) structure(n *yaml.Node, v reflect.Value, at loc) {
 	if mappingField >= 0 {
 		v.Field(mappingField).Set(reflect.ValueOf(p))
 	}
+}
+
+// pairs lists the keys and values of mapping n, with those of the mappings its merge keys
+// (<<) name in place of each merge key; a key given in n itself wins over a merged one, an
+// earlier merged mapping over a later one, as YAML's merge key type says.
+func pairs(n *yaml.Node) [][2]*yaml.Node {
+	own := map[string]bool{}
+	for i := 0; i+1 < len(n.Content); i += 2 {
+		if n.Content[i].Tag != "!!merge" {
+			own[n.Content[i].Value] = true
+		}
+	}
+	var out [][2]*yaml.Node
+	merged := map[string]bool{}
+	for i := 0; i+1 < len(n.Content); i += 2 {
+		k, v := n.Content[i], n.Content[i+1]
+		if k.Tag != "!!merge" {
+			out = append(out, [2]*yaml.Node{k, v})
+			continue
+		}
+		v = Resolve(v)
+		sources := []*yaml.Node{v}
+		if v.Kind == yaml.SequenceNode {
+			sources = v.Content
+		}
+		for _, m := range sources {
+			if m = Resolve(m); m.Kind != yaml.MappingNode {
+				out = append(out, [2]*yaml.Node{k, v}) // reported as an unknown key
+				break
+			}
+			for _, mkv := range pairs(m) {
+				if key := mkv[0].Value; !own[key] && !merged[key] {
+					merged[key] = true
+					out = append(out, mkv)
+				}
+			}
+		}
+	}
+	return out
 }
 
 func sortedKeys[V any](m map[string]V) string {
@@ -333,15 +372,15 @@ func (d *Decoder) mapping(n *yaml.Node, v reflect.Value, at loc) {
 		v.Set(reflect.MakeMap(v.Type()))
 	}
 	seen := map[string]bool{}
-	for i := 0; i+1 < len(n.Content); i += 2 {
-		k, val := n.Content[i], n.Content[i+1]
+	for _, kv := range pairs(n) {
+		k, val := kv[0], kv[1]
 		kl := at.child(k.Value)
 		if seen[k.Value] {
 			continue // reported by Parse
 		}
 		seen[k.Value] = true
 		if d.Where != nil {
-			d.Where[kl.path] = Pos{k.Line, k.Column}
+			d.Where[kl.path] = Pos{val.Line, val.Column}
 		}
 		kv := reflect.New(v.Type().Key()).Elem()
 		keyAt := kl
