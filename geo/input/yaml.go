@@ -438,11 +438,13 @@ func (d *Decoder) scalar(n *yaml.Node, v reflect.Value, at loc) bool {
 	case reflect.String:
 		v.SetString(n.Value)
 	case reflect.Bool:
-		if n.Tag != "!!bool" {
-			return bad()
+		b, ok := yaml11Bools[n.Value]
+		if n.Tag == "!!bool" {
+			var err error
+			b, err = strconv.ParseBool(n.Value)
+			ok = err == nil
 		}
-		b, err := strconv.ParseBool(n.Value)
-		if err != nil {
+		if !ok {
 			return bad()
 		}
 		v.SetBool(b)
@@ -487,6 +489,13 @@ func (d *Decoder) scalar(n *yaml.Node, v reflect.Value, at loc) bool {
 		panic("input: cannot decode a YAML scalar into " + v.Type().String())
 	}
 	return true
+}
+
+// yaml11Bools are the YAML 1.1 spellings of true and false (https://yaml.org/type/bool.html)
+// that YAML 1.2 reads as text; a key that holds true or false takes them, as yaml.v3 does.
+var yaml11Bools = map[string]bool{
+	"y": true, "Y": true, "yes": true, "Yes": true, "YES": true, "on": true, "On": true, "ON": true,
+	"n": false, "N": false, "no": false, "No": false, "NO": false, "off": false, "Off": false, "OFF": false,
 }
 
 // parseFloat reads a YAML number, .nan and .inf included (1e999 is +Inf, as YAML reads it).
