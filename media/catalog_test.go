@@ -389,7 +389,7 @@ func TestCatalogParseErrors(t *testing.T) {
 		{"empty", string(good), "", "x.yaml: not YAML: empty file"},
 		{"bad kind", "kind: multimode", "kind: plastic", `medium "om4": kind: want copper, multimode or singlemode, got "plastic"`},
 		{"bad id", "id: om4", "id: OM 4", `id: want lower-case letters`},
-		{"duplicate key", "    name: OM4\n", "    name: OM4\n    name: OM4b\n", `:6: media[0].name: given twice, at line 5 and line 6; remove one`},
+		{"duplicate key", "    name: OM4\n", "    name: OM4\n    name: OM4b\n", `:6:5: media[0].name: given twice, at line 5 and line 6; remove one`},
 		{"wrong wavelength", "wavelengths_nm: [850]", "wavelengths_nm: [1310]", `medium "om4" construction "riser" has no attenuation at 1310 nm`},
 		{"copper loss", "kind: multimode", "kind: copper", `copper has no optical attenuation`},
 		{"zero range", "range_m: 400", "range_m: 0", `range_m: want metres above 0 and at most 1000000, got 0`},
@@ -406,8 +406,8 @@ func TestCatalogParseErrors(t *testing.T) {
 		// ITU-T G.Sup39: the optical bands end at 1675 nm.
 		{"wavelength out of range", "wavelengths_nm: [850]", "wavelengths_nm: [85000]", `wavelengths_nm[0]: want a whole number of nm from 400 to 2000, got 85000`},
 		// YAML 1.2.2 §3.2.1.1: the keys of a mapping are unique.
-		{"duplicate nested key", "connections: {mated_pair_db: 0.75, splice_db: 0.3}", "connections: {mated_pair_db: 0.75, splice_db: 0.3, splice_db: 0.1}", `x.yaml:2: connections.splice_db: given twice, at line 2 and line 2`},
-		{"duplicate top-level key", "connections: {mated_pair_db: 0.75, splice_db: 0.3}\n", "connections: {mated_pair_db: 0.75, splice_db: 0.3}\nconnections: {mated_pair_db: 0.1, splice_db: 0.1}\n", `x.yaml:3: connections: given twice, at line 2 and line 3; remove one`},
+		{"duplicate nested key", "connections: {mated_pair_db: 0.75, splice_db: 0.3}", "connections: {mated_pair_db: 0.75, splice_db: 0.3, splice_db: 0.1}", `x.yaml:2:52: connections.splice_db: given twice, at line 2 and line 2`},
+		{"duplicate top-level key", "connections: {mated_pair_db: 0.75, splice_db: 0.3}\n", "connections: {mated_pair_db: 0.75, splice_db: 0.3}\nconnections: {mated_pair_db: 0.1, splice_db: 0.1}\n", `x.yaml:3:1: connections: given twice, at line 2 and line 3; remove one`},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {

@@ -257,8 +257,8 @@ func TestRulesParseErrors(t *testing.T) {
 		{"double-quoted position", "rules:\n  - id: a\n    when: \"outdoor and zz\"\n    effect: exclude\n    reason: x\n", `x.yaml:3:24: rule "a": when: `},
 		{"literal block position", "rules:\n  - id: a\n    when: |\n      outdoor and\n        zz\n    effect: exclude\n    reason: x\n", `x.yaml:5:9: rule "a": when: `},
 		// YAML 1.2.2 §3.2.1.1: the keys of a mapping are unique; yaml.v3 keeps the last.
-		{"effect given twice", "rules:\n  - id: a\n    when: outdoor\n    effect: prefer\n    effect: exclude\n    reason: x\n", `x.yaml:5: rules[0].effect: given twice, at line 4 and line 5; remove one`},
-		{"rules given twice", "rules: []\nrules:\n  - {id: a, when: outdoor, effect: exclude, reason: x}\n", `x.yaml:2: rules: given twice, at line 1 and line 2`},
+		{"effect given twice", "rules:\n  - id: a\n    when: outdoor\n    effect: prefer\n    effect: exclude\n    reason: x\n", `x.yaml:5:5: rules[0].effect: given twice, at line 4 and line 5; remove one`},
+		{"rules given twice", "rules: []\nrules:\n  - {id: a, when: outdoor, effect: exclude, reason: x}\n", `x.yaml:2:1: rules: given twice, at line 1 and line 2`},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
