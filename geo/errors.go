@@ -23,4 +23,3 @@ var (
 	// member at any level.
 	ErrDuplicateKey = input.ErrDuplicateKey
 )
-

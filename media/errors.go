@@ -22,4 +22,3 @@ var (
 	// ErrDuplicateKey is a key given twice in one mapping, at any level.
 	ErrDuplicateKey = input.ErrDuplicateKey
 )
-

@@ -27,18 +27,18 @@ const (
 
 // Plan is a parsed plan file. Paths in it are resolved against the plan file's folder.
 type Plan struct {
-	File     string   `yaml:"-"` // the plan file's path, for messages
-	Dir      string   `yaml:"-"` // the folder paths are relative to
-	Name     string   `yaml:"name"`
-	Campus   FileList `yaml:"campus"`
-	Hub      string   `yaml:"hub"`
-	Budget   Money    `yaml:"budget"`
-	Defaults Defaults `yaml:"defaults"`
+	File     string     `yaml:"-"` // the plan file's path, for messages
+	Dir      string     `yaml:"-"` // the folder paths are relative to
+	Name     string     `yaml:"name"`
+	Campus   FileList   `yaml:"campus"`
+	Hub      string     `yaml:"hub"`
+	Budget   Money      `yaml:"budget"`
+	Defaults Defaults   `yaml:"defaults"`
 	Links    []LinkSpec `yaml:"links"`
 	Design   Design     `yaml:"design"`
-	Catalog  string `yaml:"catalog"` // optional media catalog file
-	Rules    string `yaml:"rules"`   // optional rule file
-	Prices   string `yaml:"prices"`  // optional price book file
+	Catalog  string     `yaml:"catalog"` // optional media catalog file
+	Rules    string     `yaml:"rules"`   // optional rule file
+	Prices   string     `yaml:"prices"`  // optional price book file
 
 	// MaxInputBytes caps each file the plan reads (campus, catalog, rules, prices), in
 	// bytes; 0 for the defaults (input.DefaultDataMiB MiB for GeoJSON, input.DefaultTextMiB

@@ -111,7 +111,9 @@ func (d *Decoder) Fail(line, col int, item, key string, err error) {
 	d.Problems.Add(Place(Problem{File: d.File, Line: line, Col: col, Item: item, Key: key, Class: d.Class}, err))
 }
 
-func (d *Decoder) fail(n *yaml.Node, at loc, err error) { d.Fail(n.Line, n.Column, at.item, at.field, err) }
+func (d *Decoder) fail(n *yaml.Node, at loc, err error) {
+	d.Fail(n.Line, n.Column, at.item, at.field, err)
+}
 
 // tagRange is the range a field's tag names, or nil.
 func (d *Decoder) tagRange(f reflect.StructField, tag string) *Range {
