@@ -6,6 +6,7 @@ import (
 
 	"spanwright/geo"
 	"spanwright/geo/input"
+	"spanwright/media"
 )
 
 // Link is one backbone link the plan needs: a cable (or a diverse pair) from the
@@ -152,4 +153,22 @@ func (s *Site) Links(p *Plan, hub string) ([]Link, []error) {
 	}
 	sort.SliceStable(out, func(i, j int) bool { return out[i].ID < out[j].ID })
 	return out, errs
+}
+
+// checkRates reports every rate of the plan the catalog does not know: the defaults' and
+// each link's own.
+func (p *Plan) checkRates(cat *media.Catalog) []error {
+	var errs []error
+	check := func(key, rate string) {
+		if _, err := cat.ParseRate(rate); rate != "" && err != nil {
+			errs = append(errs, p.Problem(key, err))
+		}
+	}
+	check("defaults.rate", p.Defaults.Rate)
+	check("defaults.future_rate", p.Defaults.FutureRate)
+	for i, l := range p.Links {
+		check(fmt.Sprintf("links[%d].rate", i), l.Rate)
+		check(fmt.Sprintf("links[%d].future_rate", i), l.FutureRate)
+	}
+	return errs
 }

@@ -10,7 +10,6 @@ import (
 	"go.yaml.in/yaml/v3"
 
 	"spanwright/geo/input"
-	"spanwright/media"
 )
 
 // Redundancy values of a link.
@@ -374,24 +373,6 @@ func (p *Plan) Path(name string) string {
 		return name
 	}
 	return filepath.Join(p.Dir, name)
-}
-
-// checkRates reports every rate of the plan the catalog does not know: the defaults' and
-// each link's own.
-func (p *Plan) checkRates(cat *media.Catalog) []error {
-	var errs []error
-	check := func(key, rate string) {
-		if _, err := cat.ParseRate(rate); rate != "" && err != nil {
-			errs = append(errs, p.Problem(key, err))
-		}
-	}
-	check("defaults.rate", p.Defaults.Rate)
-	check("defaults.future_rate", p.Defaults.FutureRate)
-	for i, l := range p.Links {
-		check(fmt.Sprintf("links[%d].rate", i), l.Rate)
-		check(fmt.Sprintf("links[%d].future_rate", i), l.FutureRate)
-	}
-	return errs
 }
 
 // problems is errs as one *input.Problems, in file and line order.
