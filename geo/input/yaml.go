@@ -401,7 +401,11 @@ func (d *Decoder) rangeAt(at loc) *Range {
 	if at.rng != nil || d.RangeOf == nil {
 		return at.rng
 	}
-	if r, ok := d.RangeOf(listIndex.ReplaceAllString(at.path, "")); ok {
+	path := at.path
+	if strings.IndexByte(path, '[') >= 0 {
+		path = listIndex.ReplaceAllString(path, "")
+	}
+	if r, ok := d.RangeOf(path); ok {
 		return &r
 	}
 	return nil
