@@ -191,7 +191,7 @@ func SolveWith(ctx context.Context, s *Site, p *Plan, eng *media.Engine) (*Resul
 	cat := eng.Catalog()
 	errs = append(errs, p.checkRates(cat)...)
 	if un := s.unreachableServed(hub, links); len(un) > 0 {
-		errs = append(errs, p.Problem("hub", input.Errorf(geo.ErrUnreachable, "%d buildings cannot reach the hub %q through the pathway network: %v", len(un), hub, un)))
+		errs = append(errs, p.Problem("hub", input.Errorf(geo.ErrUnreachable, "%d buildings cannot reach the hub %q through the pathway network: %q", len(un), hub, un)))
 	}
 	cm, err := newCostModel(eng, p.Design)
 	if err != nil {

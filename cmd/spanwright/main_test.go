@@ -143,7 +143,7 @@ func TestBadInput(t *testing.T) {
 		{"unknown hub", []string{"plan", "testdata/plans/unknown_hub.yaml", "--out", "x"}, exitInvalid, []string{`unknown_hub.yaml:3:6: hub: want the id of a building, got "NOPE", which no building has`}},
 		{"unknown link buildings, all reported", []string{"plan", "testdata/plans/unknown_link.yaml", "--out", "x"}, exitInvalid,
 			[]string{`unknown_link.yaml:5:10: links[1].to: unknown building "GHOST"`, `unknown_link.yaml:6:12: links[2].from: unknown building "PHANTOM"`}},
-		{"unreachable building named", []string{"plan", "testdata/plans/island.yaml", "--out", "x"}, exitInvalid, []string{`cannot reach the hub "HQ"`, "[ISLE]"}},
+		{"unreachable building named", []string{"plan", "testdata/plans/island.yaml", "--out", "x"}, exitInvalid, []string{`island.yaml: hub: 1 buildings cannot reach the hub "HQ" through the pathway network: ["ISLE"]`}},
 		{"check names unreachable", []string{"check", "testdata/plans/island.yaml"}, exitInvalid, []string{"cannot reach the hub HQ: [ISLE]"}},
 	}
 	for _, tc := range cases {
