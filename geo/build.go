@@ -9,6 +9,8 @@ import (
 	"strings"
 
 	"github.com/paulmach/orb"
+
+	"spanwright/geo/input"
 )
 
 // Access ways, the values of Access.Via.
@@ -44,8 +46,8 @@ const minCellM = 25.0
 //     which becomes a junction (a vertex within SnapM of it is used instead, so short spans are
 //     not cut off); the lateral runs from the nearest point of the footprint boundary.
 //
-// A building with none of these is an ErrUnreachable FeatureError. All problems come back
-// together as an *ErrorList. Snapping and intersection tests use an equirectangular projection
+// A building with none of these is an ErrUnreachable *input.Problem. All problems come back
+// together as an *input.Problems. Snapping and intersection tests use an equirectangular projection
 // around the campus's centre; every length is ellipsoidal (DistanceM). The result depends only
 // on the input, byte for byte; junction numbers (JunctionPrefix + zero-padded number) follow
 // the junctions' coordinates, so reordering features keeps every ID. Campuses across the
@@ -182,7 +184,7 @@ type warnRec struct {
 type builder struct {
 	c            *Campus
 	snap, maxLat float64
-	errs         ErrorList
+	errs         input.Problems
 	warns        []warnRec
 
 	proj    projector
@@ -208,7 +210,7 @@ type builder struct {
 }
 
 func (b *builder) add(src Source, id, prop string, err error) {
-	b.errs.Add(&FeatureError{File: src.File, Index: src.Index, FeatureID: id, Property: prop, Err: err})
+	b.errs.Add(&input.Problem{File: src.File, Feature: &input.Feature{Index: src.Index, ID: id}, Key: prop, Err: err})
 }
 
 func finite(p orb.Point) bool {

@@ -5,10 +5,12 @@ import (
 	"os"
 	"path/filepath"
 	"testing"
+
+	"spanwright/geo/input"
 )
 
 // FuzzParse checks that Parse never panics, that it returns either a campus or an
-// *ErrorList, and that Build never panics on what Parse accepts. The seed corpus is every
+// *input.Problems, and that Build never panics on what Parse accepts. The seed corpus is every
 // fixture under testdata/bad plus a small valid campus; testdata/fuzz/FuzzParse holds
 // crashers found earlier.
 func FuzzParse(f *testing.F) {
@@ -27,9 +29,9 @@ func FuzzParse(f *testing.F) {
 	f.Fuzz(func(t *testing.T, data []byte) {
 		c, err := Parse("fuzz.geojson", data)
 		if err != nil {
-			var list *ErrorList
+			var list *input.Problems
 			if !errors.As(err, &list) || c != nil {
-				t.Fatalf("got %T and campus %v, want *ErrorList and nil", err, c)
+				t.Fatalf("got %T and campus %v, want *input.Problems and nil", err, c)
 			}
 			return
 		}
@@ -115,9 +117,9 @@ func FuzzBuild(f *testing.F) {
 		}
 		n, err := Build(&c, Options{})
 		if err != nil {
-			var list *ErrorList
+			var list *input.Problems
 			if !errors.As(err, &list) {
-				t.Fatalf("got %T, want *ErrorList: %v", err, err)
+				t.Fatalf("got %T, want *input.Problems: %v", err, err)
 			}
 			return
 		}

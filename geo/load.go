@@ -90,7 +90,7 @@ func problemf(kind error, format string, args ...any) error {
 }
 
 // Parse reads one GeoJSON FeatureCollection; name is used in error messages only. It returns
-// every problem found as an *ErrorList of *FeatureError, and never panics on bad input.
+// every problem found as an *input.Problems, and never panics on bad input.
 //
 // Each feature's "kind" property says what it is; without one, polygons are buildings, lines
 // are pathways and points are structures. A feature's id is its "id" property, or the
@@ -165,7 +165,7 @@ func LoadFSContext(ctx context.Context, fsys fs.FS, names []string) (*Campus, er
 type loader struct {
 	ctx  context.Context // LoadContext's; parseFile stops reading features when it is done
 	c    Campus
-	errs ErrorList
+	errs input.Problems
 	ids  map[string]idUse
 }
 
@@ -192,7 +192,7 @@ func (l *loader) finishContext() (*Campus, error) {
 }
 
 func (l *loader) fileErr(file string, err error) {
-	l.errs.Add(&FeatureError{File: file, Index: -1, Err: err})
+	l.errs.Add(&input.Problem{File: file, Err: err})
 }
 
 func (l *loader) finish() (*Campus, error) {
@@ -234,10 +234,10 @@ func (l *loader) checkEntrances() {
 		use, ok := l.ids[e.Building]
 		switch {
 		case !ok:
-			l.errs.Add(&FeatureError{File: e.File, Index: e.Index, FeatureID: e.ID, Property: PropBuilding,
+			l.errs.Add(&input.Problem{File: e.File, Feature: &input.Feature{Index: e.Index, ID: e.ID}, Key: PropBuilding,
 				Err: problemf(ErrUnknownReference, "want the id of a building, got %q, which no feature has", e.Building)})
 		case use.kind != KindBuilding:
-			l.errs.Add(&FeatureError{File: e.File, Index: e.Index, FeatureID: e.ID, Property: PropBuilding,
+			l.errs.Add(&input.Problem{File: e.File, Feature: &input.Feature{Index: e.Index, ID: e.ID}, Key: PropBuilding,
 				Err: problemf(ErrUnknownReference, "want the id of a building, got %q, which is a %s (%s feature #%d)",
 					e.Building, use.kind, use.File, use.Index)})
 		}
@@ -248,7 +248,7 @@ func (l *loader) checkEntrances() {
 			continue
 		}
 		if use, ok := l.ids[id]; ok {
-			l.errs.Add(&FeatureError{File: e.File, Index: e.Index, Property: PropID,
+			l.errs.Add(&input.Problem{File: e.File, Feature: &input.Feature{Index: e.Index}, Key: PropID,
 				Err: problemf(ErrDuplicateID, "this entrance has no id and its generated id %q is used by %s feature #%d; give the entrance an id",
 					id, use.File, use.Index)})
 		}
@@ -266,7 +266,7 @@ func (l *loader) checkMC() {
 			continue
 		}
 		f := l.c.Buildings[first]
-		l.errs.Add(&FeatureError{File: b.File, Index: b.Index, FeatureID: b.ID, Property: PropRole,
+		l.errs.Add(&input.Problem{File: b.File, Feature: &input.Feature{Index: b.Index, ID: b.ID}, Key: PropRole,
 			Err: problemf(ErrBadValue, "want at most one %q building in the campus, got a second: %q (%s feature #%d) is already %q",
 				RoleMC, f.ID, f.File, f.Index, RoleMC)})
 	}
@@ -404,7 +404,7 @@ type feature struct {
 }
 
 func (f *feature) add(prop string, err error) {
-	f.l.errs.Add(&FeatureError{File: f.src.File, Index: f.src.Index, FeatureID: f.id, Property: prop, Err: err})
+	f.l.errs.Add(input.Place(input.Problem{File: f.src.File, Feature: &input.Feature{Index: f.src.Index, ID: f.id}, Key: prop}, err))
 }
 
 func (l *loader) parseFeature(src Source, raw json.RawMessage, dups []input.Duplicate) {
@@ -741,7 +741,7 @@ func (f *feature) num(key string, def float64, r input.Range) float64 {
 	}
 	if err != nil {
 		// n as written: 1e999 rather than its overflow, +Inf
-		f.add(key, problemf(ErrBadValue, "want %s, got %s", r, n))
+		f.add(key, &input.Problem{Value: string(n), Err: problemf(input.ErrOutOfRange, "want %s", r)})
 		return def
 	}
 	return x

@@ -79,13 +79,13 @@ func TestParseBad(t *testing.T) {
 			if err == nil {
 				t.Fatalf("%s: got no error, want %q", tc.file, tc.want)
 			}
-			var list *ErrorList
+			var list *input.Problems
 			if !errors.As(err, &list) {
-				t.Fatalf("%s: got %T, want *ErrorList", tc.file, err)
+				t.Fatalf("%s: got %T, want *input.Problems", tc.file, err)
 			}
-			var fe *FeatureError
+			var fe *input.Problem
 			if !errors.As(err, &fe) {
-				t.Errorf("%s: no *FeatureError in %v", tc.file, err)
+				t.Errorf("%s: no *input.Problem in %v", tc.file, err)
 			}
 			if !strings.Contains(err.Error(), tc.want) {
 				t.Errorf("%s: got\n%v\nwant substring\n%s", tc.file, err, tc.want)
@@ -136,7 +136,7 @@ func TestParseSeveralProblemsAtOnce(t *testing.T) {
 			t.Errorf("missing %q in\n%s", w, msg)
 		}
 	}
-	var list *ErrorList
+	var list *input.Problems
 	if !errors.As(err, &list) || list.Len() != len(want) {
 		t.Errorf("got %d problems, want %d:\n%s", list.Len(), len(want), msg)
 	}
@@ -146,7 +146,7 @@ func TestParseErrorCap(t *testing.T) {
 	t.Parallel()
 	var b strings.Builder
 	b.WriteString(`{"type":"FeatureCollection","features":[`)
-	for i := 0; i < MaxErrors+20; i++ {
+	for i := 0; i < input.MaxProblems+20; i++ {
 		if i > 0 {
 			b.WriteByte(',')
 		}
@@ -154,12 +154,12 @@ func TestParseErrorCap(t *testing.T) {
 	}
 	b.WriteString(`]}`)
 	_, err := Parse("many.geojson", []byte(b.String()))
-	var list *ErrorList
+	var list *input.Problems
 	if !errors.As(err, &list) {
-		t.Fatalf("got %v, want *ErrorList", err)
+		t.Fatalf("got %v, want *input.Problems", err)
 	}
-	if len(list.Errs) != MaxErrors || list.Dropped == 0 {
-		t.Errorf("kept %d, dropped %d; want %d kept and some dropped", len(list.Errs), list.Dropped, MaxErrors)
+	if len(list.List) != input.MaxProblems || list.Dropped == 0 {
+		t.Errorf("kept %d, dropped %d; want %d kept and some dropped", len(list.List), list.Dropped, input.MaxProblems)
 	}
 	if !strings.Contains(err.Error(), "more errors)") {
 		t.Errorf("message does not count the dropped problems")
@@ -356,9 +356,9 @@ func TestLoadRefusesUnboundedInput(t *testing.T) {
 	}
 	for _, tc := range cases {
 		_, err := LoadLimit([]string{tc.path}, tc.max)
-		var fe *FeatureError
+		var fe *input.Problem
 		if !errors.As(err, &fe) || !errors.Is(err, tc.is) || !strings.Contains(err.Error(), tc.want) {
-			t.Errorf("%s: got %v, want a FeatureError %q", tc.name, err, tc.want)
+			t.Errorf("%s: got %v, want an input.Problem %q", tc.name, err, tc.want)
 		}
 	}
 }

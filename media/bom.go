@@ -5,6 +5,8 @@ import (
 	"math"
 	"sort"
 	"strconv"
+
+	"spanwright/geo/input"
 )
 
 // Bill-of-materials categories, the values of Quantity.Category, in the order a BOM lists
@@ -121,12 +123,12 @@ type lineKey struct {
 }
 
 // Bill prices quantities from the book into a BOM. It merges quantities that differ only in
-// Amount, drops those that come to nothing, and reports at once, as an *ErrorList, every
-// price or labour rate the book lacks (each a *FileError with ErrMissingPrice naming the
+// Amount, drops those that come to nothing, and reports at once, as an *input.Problems, every
+// price or labour rate the book lacks (each an *input.Problem with ErrMissingPrice naming the
 // key and the path to add it at) and every malformed quantity (unknown category or unit,
 // amount not finite and >= 0, ErrBadValue). Time O(Q log Q) for Q quantities.
 func (p *PriceBook) Bill(qs []Quantity) (*BOM, error) {
-	var errs ErrorList
+	var errs input.Problems
 	sums := map[lineKey]float64{}
 	var keys []lineKey
 	var needs []PriceKey
@@ -149,16 +151,14 @@ func (p *PriceBook) Bill(qs []Quantity) (*BOM, error) {
 		sums[k] += q.Amount
 	}
 	if err := p.Check(needs); err != nil {
-		for _, e := range err.(*ErrorList).Errs {
-			errs.Add(e)
-		}
+		errs.Add(err)
 	}
 	for _, k := range keys {
 		if r, ok := p.Rate(k.rate); k.rate.Item != "" && ok && (!finite(r) || r <= 0) {
 			errs.Add(fmt.Errorf("media: %s: rate %s: %w: want > 0, got %g", p.File, k.rate.Path(), ErrBadValue, r))
 		}
 	}
-	if err := errs.Err(); err != nil {
+	if err := sorted(&errs); err != nil {
 		return nil, err
 	}
 	b := &BOM{Label: p.Label, Currency: p.Currency,

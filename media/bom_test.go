@@ -165,7 +165,7 @@ func TestBillErrors(t *testing.T) {
 			{Category: CategoryConstruction, Item: "trench", Unit: UnitM, Amount: 3, Price: PriceKey{Item: PriceTrench, Name: "asphalt"}},
 			{Category: CategoryMaterial, Item: "cord", Unit: UnitEach, Amount: 3, Price: PriceKey{Item: PricePatchCord, Medium: "os2"}},
 			{Category: CategoryLabour, Item: "pull", Unit: UnitM, Amount: 3, Price: PriceKey{Item: PriceLabourHour}, Rate: PriceKey{Item: RatePull, Name: "duct"}},
-		}, []string{`price "trench asphalt": missing price: add trench_per_m.asphalt`, "add patch_cords_each.os2", "add labour.pull_m_per_hour.duct"}},
+		}, []string{`price "trench asphalt": missing; add trench_per_m.asphalt`, "add patch_cords_each.os2", "add labour.pull_m_per_hour.duct"}},
 		{"bad quantities", []Quantity{
 			{Category: "snacks", Item: "x", Unit: UnitM, Amount: 1, Price: PriceKey{Item: PriceTrench, Name: "turf"}},
 			{Category: CategoryMaterial, Item: "y", Unit: "furlong", Amount: 1, Price: PriceKey{Item: PriceTrench, Name: "turf"}},

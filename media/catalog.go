@@ -15,6 +15,8 @@ import (
 	"text/tabwriter"
 
 	"go.yaml.in/yaml/v3"
+
+	"spanwright/geo/input"
 )
 
 // Medium kinds, the values of Medium.Kind.
@@ -219,11 +221,11 @@ var rateRE = regexp.MustCompile(`^([0-9]+(?:\.[0-9]+)?)\s*(?:[gG](?:b(?:ps|it/s|
 func (c *Catalog) ParseRate(s string) (float64, error) {
 	m := rateRE.FindStringSubmatch(strings.TrimSpace(s))
 	if m == nil {
-		return 0, fmt.Errorf("%w: rate %q: want a rate such as 10G; the catalog has %s", ErrBadValue, s, rateList(c.Rates()))
+		return 0, input.Errorf(ErrBadValue, "rate %q: want a rate such as 10G; the catalog has %s", s, rateList(c.Rates()))
 	}
 	r, _ := strconv.ParseFloat(m[1], 64)
 	if !containsRate(c.Rates(), r) {
-		return 0, fmt.Errorf("%w: rate %q: no application runs at %s; the catalog has %s", ErrBadValue, s, FormatRate(r), rateList(c.Rates()))
+		return 0, input.Errorf(ErrBadValue, "rate %q: no application runs at %s; the catalog has %s", s, FormatRate(r), rateList(c.Rates()))
 	}
 	return r, nil
 }
@@ -347,11 +349,11 @@ var idRE = regexp.MustCompile(`^[a-z0-9][a-z0-9-]*$`)
 // checker reports validation problems of one file at a key's position.
 type checker struct {
 	file string
-	errs *ErrorList
+	errs *input.Problems
 }
 
 func (c checker) bad(p pos, item, field string, sentinel error, format string, args ...any) {
-	line, col := p.at(lastKey(field))
+	line, col := p.At(lastKey(field))
 	c.badAt(line, col, item, field, sentinel, format, args...)
 }
 
@@ -361,13 +363,13 @@ func (c checker) badAt(line, col int, item, field string, sentinel error, format
 	if c.reported(item, field) {
 		return
 	}
-	c.errs.Add(&FileError{File: c.file, Line: line, Col: col, Item: item, Field: field,
-		Err: fmt.Errorf("%w: "+format, append([]any{sentinel}, args...)...)})
+	c.errs.Add(&input.Problem{File: c.file, Line: line, Col: col, Item: item, Key: field,
+		Err: input.Errorf(sentinel, format, args...)})
 }
 
 func (c checker) reported(item, field string) bool {
-	for _, e := range c.errs.Errs {
-		if fe, ok := e.(*FileError); ok && fe.File == c.file && fe.Item == item && fe.Field == field {
+	for _, p := range c.errs.List {
+		if p.File == c.file && p.Item == item && p.Key == field {
 			return true
 		}
 	}
@@ -389,32 +391,31 @@ func lastKey(field string) string {
 func (c checker) require(p pos, item string, keys ...string) bool {
 	ok := true
 	for _, k := range keys {
-		if !p.has(k) {
+		if !p.Has(k) {
 			ok = false
 			if c.reported(item, k) {
 				continue
 			}
-			c.errs.Add(&FileError{File: c.file, Line: p.Line, Col: p.Col, Item: item, Field: k, Err: ErrMissingField})
+			c.errs.Add(&input.Problem{File: c.file, Line: p.Line, Col: p.Col, Item: item, Key: k, Err: input.Errorf(ErrMissingField, "missing")})
 		}
 	}
 	return ok
 }
 
 // ParseCatalog reads a catalog from data; name is the file name used in messages. Every
-// problem is reported at once in an *ErrorList of *FileError, each naming the file, line,
+// problem is reported at once in an *input.Problems, each naming the file, line,
 // item and field.
 func ParseCatalog(name string, data []byte) (*Catalog, error) {
-	var errs ErrorList
+	var errs input.Problems
 	var f catalogFile
-	d := decoder{file: name, errs: &errs}
-	d.parseYAML(data, &f)
+	newDecoder(name, &errs).Parse(data, &f)
 	if errs.Len() > 0 && f.Pos.Keys == nil {
-		return nil, errs.Err()
+		return nil, sorted(&errs)
 	}
 	c := checker{file: name, errs: &errs}
 	cat := &Catalog{File: name, MatedPairDB: f.Connections.MatedPairDB, SpliceDB: f.Connections.SpliceDB}
 	c.require(f.Pos, "", "connections", "media", "applications")
-	if f.Pos.has("connections") && c.require(f.Connections.Pos, "connections", "mated_pair_db", "splice_db") {
+	if f.Pos.Has("connections") && c.require(f.Connections.Pos, "connections", "mated_pair_db", "splice_db") {
 		if cat.MatedPairDB < 0 {
 			c.bad(f.Connections.Pos, "connections", "mated_pair_db", ErrBadValue, "want dB >= 0, got %g", cat.MatedPairDB)
 		}
@@ -454,7 +455,7 @@ func ParseCatalog(name string, data []byte) (*Catalog, error) {
 		seenApp[a.Name] = ay.Pos.Line
 		cat.Applications = append(cat.Applications, a)
 	}
-	if err := errs.Err(); err != nil {
+	if err := sorted(&errs); err != nil {
 		return nil, err
 	}
 	return cat, nil
@@ -484,7 +485,7 @@ func (c checker) medium(my mediumYAML, item string) *Medium {
 			ok = false
 		}
 	case KindMultimode, KindSinglemode:
-		if !my.Pos.has("jacket_colour") {
+		if !my.Pos.Has("jacket_colour") {
 			c.require(my.Pos, item, "jacket_colour")
 			ok = false
 		}
@@ -546,7 +547,7 @@ func nestedLine(p pos, key string, sub int) (int, int) {
 	if !ok || k.Value == nil {
 		return p.Line, p.Col
 	}
-	n := resolve(k.Value)
+	n := input.Resolve(k.Value)
 	for i := 0; i+1 < len(n.Content); i += 2 {
 		if n.Content[i].Value == strconv.Itoa(sub) {
 			return n.Content[i].Line, n.Content[i].Column
@@ -576,7 +577,7 @@ func (c checker) construction(cy constructionYAML, item string, m *Medium, mediu
 	k := &Construction{ID: cy.ID, Name: cy.Name, Listing: cy.Listing, OutdoorRated: cy.OutdoorRated,
 		PlenumRated: cy.PlenumRated, JacketColour: m.JacketColour,
 		BendRadiusUnloadedOD: cy.BendRadiusUnloadedOD, BendRadiusLoadedOD: cy.BendRadiusLoadedOD, MaxPullN: cy.MaxPullN}
-	if cy.Pos.has("jacket_colour") {
+	if cy.Pos.Has("jacket_colour") {
 		k.JacketColour = cy.JacketColour
 	}
 	if m.Kind == KindCopper && len(cy.Attenuation) > 0 {
@@ -723,7 +724,7 @@ func (c checker) application(ay applicationYAML, item string, cat *Catalog, decl
 					}
 				}
 			}
-		} else if ry.Pos.has("max_loss_db") {
+		} else if ry.Pos.Has("max_loss_db") {
 			c.bad(ry.Pos, ritem, "max_loss_db", ErrBadValue, "copper has no optical loss budget; remove the key")
 			ok = false
 		}
@@ -749,7 +750,7 @@ func (c checker) application(ay applicationYAML, item string, cat *Catalog, decl
 // lists every rate; any other rate must be one the catalog offers.
 func (c *Catalog) Table(w io.Writer, rateGbps float64) error {
 	if rateGbps != 0 && !containsRate(c.Rates(), rateGbps) {
-		return fmt.Errorf("%w: no application runs at %s; the catalog has %s", ErrBadValue, FormatRate(rateGbps), rateList(c.Rates()))
+		return input.Errorf(ErrBadValue, "no application runs at %s; the catalog has %s", FormatRate(rateGbps), rateList(c.Rates()))
 	}
 	tw := tabwriter.NewWriter(w, 0, 8, 2, ' ', 0)
 	fmt.Fprintln(tw, "application\trate\twavelength nm\tuses\tmedium\trange m\tmax channel loss dB\tjacket")

@@ -9,7 +9,7 @@
 // read by ParseCatalog), rules.yaml (ordered declarative rules over the facts FactList
 // documents, read by ParseRules) and prices-demo.yaml (a price book of invented prices, read
 // by ParsePriceBook). Every value in the catalog names its source. The readers report every
-// problem of a file at once as an *ErrorList of *FileError, each naming the file, line,
+// problem of a file at once as an *input.Problems (spanwright/geo/input), each naming the file, line,
 // column, item and field; callers test the cause with errors.Is and the Err* sentinels.
 //
 // An Engine joins the three: Choose decides one link, and MaxChannelM, CablePerMCents and

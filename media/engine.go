@@ -8,6 +8,8 @@ import (
 	"strings"
 
 	lru "github.com/hashicorp/golang-lru/v2"
+
+	"spanwright/geo/input"
 )
 
 // Rule ids of Rejections that no rule file defines.
@@ -61,7 +63,7 @@ func NewEngine(c *Catalog, r *Rules, p *PriceBook, opt EngineOptions) (*Engine, 
 	if p == nil {
 		p = DefaultPriceBook()
 	}
-	var errs ErrorList
+	var errs input.Problems
 	for _, o := range []struct {
 		name string
 		v    float64
@@ -83,11 +85,9 @@ func NewEngine(c *Catalog, r *Rules, p *PriceBook, opt EngineOptions) (*Engine, 
 		e.checkRule(rule, &errs)
 	}
 	if err := p.Check(Needs(c)); err != nil {
-		for _, m := range err.(*ErrorList).Errs {
-			errs.Add(m)
-		}
+		errs.Add(err)
 	}
-	if err := errs.Err(); err != nil {
+	if err := sorted(&errs); err != nil {
 		return nil, err
 	}
 	// lru.New errs only on a size <= 0.
@@ -97,12 +97,12 @@ func NewEngine(c *Catalog, r *Rules, p *PriceBook, opt EngineOptions) (*Engine, 
 }
 
 // checkRule reports rule references the catalog cannot satisfy, and collects breakpoints.
-func (e *Engine) checkRule(rule *Rule, errs *ErrorList) {
+func (e *Engine) checkRule(rule *Rule, errs *input.Problems) {
 	item := "rule " + fmt.Sprintf("%q", rule.ID)
 	for _, id := range rule.Media {
 		if e.cat.Medium(id) == nil {
-			errs.Add(&FileError{File: e.rules.File, Line: rule.mediaLine, Item: item, Field: "media",
-				Err: fmt.Errorf("%w: no medium %q in %s", ErrUnknownReference, id, e.cat.File)})
+			errs.Add(&input.Problem{File: e.rules.File, Line: rule.mediaLine, Item: item, Key: "media",
+				Err: input.Errorf(ErrUnknownReference, "no medium %q in %s", id, e.cat.File)})
 		}
 	}
 	for _, lit := range rule.When.lits {
@@ -121,8 +121,8 @@ func (e *Engine) checkRule(rule *Rule, errs *ErrorList) {
 		}
 		if !known {
 			line, col := rule.whenPos(lit.off)
-			errs.Add(&FileError{File: e.rules.File, Line: line, Col: col, Item: item, Field: "when",
-				Err: fmt.Errorf("%w: no %s %q in %s", ErrUnknownReference, lit.fact, lit.value, e.cat.File)})
+			errs.Add(&input.Problem{File: e.rules.File, Line: line, Col: col, Item: item, Key: "when",
+				Err: input.Errorf(ErrUnknownReference, "no %s %q in %s", lit.fact, lit.value, e.cat.File)})
 		}
 	}
 	collectNumbers(rule.When.root, &e.breakpoints)

@@ -479,8 +479,8 @@ func TestNewEngineErrors(t *testing.T) {
 	_, err = NewEngine(nil, nil, p, EngineOptions{LossMarginDB: -1})
 	for _, w := range []string{
 		`media: option loss_margin_db: bad value: want dB >= 0, got -1`,
-		`short.yaml: price "cable cat6a cmp-plenum 1": missing price: add cable_per_m.cat6a.cmp-plenum.1`,
-		`short.yaml: price "transceiver 10GBASE-LR": missing price: add transceivers.10GBASE-LR`,
+		`short.yaml: price "cable cat6a cmp-plenum 1": missing; add cable_per_m.cat6a.cmp-plenum.1`,
+		`short.yaml: price "transceiver 10GBASE-LR": missing; add transceivers.10GBASE-LR`,
 	} {
 		if err == nil || !strings.Contains(err.Error(), w) {
 			t.Errorf("got %v, want it to contain %q", err, w)

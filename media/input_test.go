@@ -6,6 +6,8 @@ import (
 	"strings"
 	"testing"
 
+	"go.yaml.in/yaml/v3"
+
 	"spanwright/geo/input"
 )
 
@@ -14,6 +16,19 @@ import (
 // map) must name its range in a tag, so that none is read unchecked.
 func TestEveryNumberHasARange(t *testing.T) {
 	t.Parallel()
+	unmarshalerType := reflect.TypeOf((*yaml.Unmarshaler)(nil)).Elem()
+	nodeType := reflect.TypeOf(yaml.Node{})
+	tagRange := func(f reflect.StructField, tag string) *input.Range {
+		name := f.Tag.Get(tag)
+		if name == "" {
+			return nil
+		}
+		r, ok := ranges[name]
+		if !ok {
+			t.Fatalf("%s: unknown range %q", f.Name, name)
+		}
+		return &r
+	}
 	isNum := func(t reflect.Type) bool {
 		switch t.Kind() {
 		case reflect.Int, reflect.Int64, reflect.Float64:
@@ -65,10 +80,10 @@ func TestLoadRefusesDevice(t *testing.T) {
 	for name, load := range loads {
 		// Linux null(4): /dev/zero reads as zero bytes without end.
 		err := load("/dev/zero")
-		var fe *FileError
+		var fe *input.Problem
 		if !errors.As(err, &fe) || !errors.Is(err, input.ErrNotRegular) ||
 			!strings.Contains(err.Error(), "/dev/zero: read: not a regular file but a character device") {
-			t.Errorf("%s: got %v, want a *FileError refusing the device", name, err)
+			t.Errorf("%s: got %v, want an *input.Problem refusing the device", name, err)
 		}
 	}
 }

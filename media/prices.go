@@ -10,6 +10,8 @@ import (
 	"time"
 
 	"go.yaml.in/yaml/v3"
+
+	"spanwright/geo/input"
 )
 
 // Price items, the values of PriceKey.Item. Money items are read with PriceBook.Price, in
@@ -197,14 +199,14 @@ func sortKeys(keys []PriceKey) {
 	sort.Slice(keys, func(i, j int) bool { return keyLess(keys[i], keys[j]) })
 }
 
-// Check reports every key of needs the book lacks, at once, as an *ErrorList of *FileError
+// Check reports every key of needs the book lacks, at once, as an *input.Problems
 // with ErrMissingPrice, each naming the key and the path to add it at; nil when all are there.
 func (p *PriceBook) Check(needs []PriceKey) error {
-	var errs ErrorList
+	var errs input.Problems
 	seen := map[PriceKey]bool{}
-	sorted := append([]PriceKey(nil), needs...)
-	sortKeys(sorted)
-	for _, k := range sorted {
+	keys := append([]PriceKey(nil), needs...)
+	sortKeys(keys)
+	for _, k := range keys {
 		if seen[k] {
 			continue
 		}
@@ -216,11 +218,11 @@ func (p *PriceBook) Check(needs []PriceKey) error {
 			_, ok = p.money[k]
 		}
 		if !ok {
-			errs.Add(&FileError{File: p.File, Item: "price " + strconv.Quote(k.String()),
-				Err: fmt.Errorf("%w: add %s", ErrMissingPrice, k.Path())})
+			errs.Add(&input.Problem{File: p.File, Item: "price " + strconv.Quote(k.String()),
+				Err: input.Errorf(ErrMissingPrice, "missing; add %s", k.Path())})
 		}
 	}
-	return errs.Err()
+	return sorted(&errs)
 }
 
 // ApplyBP returns bp basis points of cents, rounded half away from zero.
@@ -276,11 +278,11 @@ type cents int64
 
 func (c *cents) UnmarshalYAML(n *yaml.Node) error {
 	if n.Kind != yaml.ScalarNode || (n.Tag != "!!int" && n.Tag != "!!float" && n.Tag != "!!str") {
-		return fmt.Errorf("%w: want an amount such as 12.35, got %s", ErrWrongType, kindName(n))
+		return input.Errorf(ErrWrongType, "want an amount such as 12.35, got %s", input.KindName(n))
 	}
 	v, ok := parseDecimal2(n.Value)
 	if !ok {
-		return fmt.Errorf("%w: want an amount >= 0 with at most two decimals, such as 12.35, got %q", ErrBadValue, n.Value)
+		return input.Errorf(ErrBadValue, "want an amount >= 0 with at most two decimals, such as 12.35, got %q", n.Value)
 	}
 	*c = cents(v)
 	return nil
@@ -291,11 +293,11 @@ type basisPoints int64
 
 func (b *basisPoints) UnmarshalYAML(n *yaml.Node) error {
 	if n.Kind != yaml.ScalarNode || (n.Tag != "!!int" && n.Tag != "!!float") {
-		return fmt.Errorf("%w: want a percentage such as 8.25, got %s", ErrWrongType, kindName(n))
+		return input.Errorf(ErrWrongType, "want a percentage such as 8.25, got %s", input.KindName(n))
 	}
 	v, ok := parseDecimal2(n.Value)
 	if !ok || v > 100_00 {
-		return fmt.Errorf("%w: want a percentage from 0 to 100 with at most two decimals, got %q", ErrBadValue, n.Value)
+		return input.Errorf(ErrBadValue, "want a percentage from 0 to 100 with at most two decimals, got %q", n.Value)
 	}
 	*b = basisPoints(v)
 	return nil
@@ -389,16 +391,15 @@ func LoadPriceBook(path string) (*PriceBook, error) {
 }
 
 // ParsePriceBook reads a price book from data; name is the file name used in messages.
-// Unknown keys, bad amounts and bad names are all reported at once in an *ErrorList of
-// *FileError naming the key and its line. Amounts are decimal with at most two decimals and
+// Unknown keys, bad amounts and bad names are all reported at once in an *input.Problems,
+// each naming the key and its line. Amounts are decimal with at most two decimals and
 // are read without a float (12.35 → 1235 cents).
 func ParsePriceBook(name string, data []byte) (*PriceBook, error) {
-	var errs ErrorList
+	var errs input.Problems
 	var f priceFile
-	d := decoder{file: name, errs: &errs}
-	d.parseYAML(data, &f)
+	newDecoder(name, &errs).Parse(data, &f)
 	if errs.Len() > 0 && f.Pos.Keys == nil {
-		return nil, errs.Err()
+		return nil, sorted(&errs)
 	}
 	c := checker{file: name, errs: &errs}
 	c.require(f.Pos, "", "label", "currency", "prices_date")
@@ -406,13 +407,13 @@ func ParsePriceBook(name string, data []byte) (*PriceBook, error) {
 		SpliceTrayStrands: f.SpliceTray.Strands,
 		ContingencyBP:     int64(f.Markups.Contingency), OverheadBP: int64(f.Markups.Overhead), TaxBP: int64(f.Markups.Tax),
 		money: map[PriceKey]int64{}, rates: map[PriceKey]float64{}}
-	if f.Pos.has("label") && strings.TrimSpace(f.Label) == "" {
+	if f.Pos.Has("label") && strings.TrimSpace(f.Label) == "" {
 		c.bad(f.Pos, "", "label", ErrBadValue, "want a label saying whose prices these are, got an empty string")
 	}
-	if f.Pos.has("currency") && !currencyRE.MatchString(f.Currency) {
+	if f.Pos.Has("currency") && !currencyRE.MatchString(f.Currency) {
 		c.bad(f.Pos, "", "currency", ErrBadValue, "want an ISO 4217 code such as USD, got %q", f.Currency)
 	}
-	if f.Pos.has("prices_date") {
+	if f.Pos.Has("prices_date") {
 		if _, err := time.Parse("2006-01-02", f.PricesDate); err != nil {
 			c.bad(f.Pos, "", "prices_date", ErrBadValue, "want a date YYYY-MM-DD, got %q", f.PricesDate)
 		}
@@ -435,7 +436,7 @@ func ParsePriceBook(name string, data []byte) (*PriceBook, error) {
 	for _, m := range sortedStrings(f.PatchCordsEach) {
 		money(PriceKey{Item: PricePatchCord, Medium: m}, f.PatchCordsEach[m])
 	}
-	if f.Pos.has("splice_tray") {
+	if f.Pos.Has("splice_tray") {
 		if c.require(f.SpliceTray.Pos, "", "each", "strands") {
 			money(PriceKey{Item: PriceSpliceTray}, f.SpliceTray.Each)
 			if f.SpliceTray.Strands <= 0 {
@@ -444,7 +445,7 @@ func ParsePriceBook(name string, data []byte) (*PriceBook, error) {
 		}
 	}
 	scalar := func(key, item string, v cents) {
-		if f.Pos.has(key) {
+		if f.Pos.Has(key) {
 			money(PriceKey{Item: item}, v)
 		}
 	}
@@ -478,13 +479,13 @@ func ParsePriceBook(name string, data []byte) (*PriceBook, error) {
 	named("trench_per_m", PriceTrench, f.TrenchPerM, surfaces)
 	named("restoration_per_m", PriceRestoration, f.RestorationPerM, surfaces)
 	named("transceivers", PriceTransceiver, f.Transceivers, nil)
-	if f.Pos.has("labour") {
+	if f.Pos.Has("labour") {
 		lb := f.Labour
-		if lb.Pos.has("hourly_rate") {
+		if lb.Pos.Has("hourly_rate") {
 			money(PriceKey{Item: PriceLabourHour}, lb.HourlyRate)
 		}
 		rate := func(p0 pos, key, field string, item string, v float64) {
-			if !p0.has(key) {
+			if !p0.Has(key) {
 				return
 			}
 			if v <= 0 {
@@ -509,7 +510,7 @@ func ParsePriceBook(name string, data []byte) (*PriceBook, error) {
 			}
 		}
 	}
-	if err := errs.Err(); err != nil {
+	if err := sorted(&errs); err != nil {
 		return nil, err
 	}
 	return p, nil
@@ -520,15 +521,15 @@ func ParsePriceBook(name string, data []byte) (*PriceBook, error) {
 func (c checker) badPath(p pos, key string, path []string, format string, args ...any) {
 	field := key + "." + strings.Join(path, ".")
 	key = lastKey(key)
-	line, col := p.at(key)
+	line, col := p.At(key)
 	if k, ok := p.Keys[key]; ok && k.Value != nil {
-		n := resolve(k.Value)
+		n := input.Resolve(k.Value)
 		for _, step := range path {
 			found := false
 			for i := 0; i+1 < len(n.Content); i += 2 {
 				if n.Content[i].Value == step {
 					line, col = n.Content[i].Line, n.Content[i].Column
-					n = resolve(n.Content[i+1])
+					n = input.Resolve(n.Content[i+1])
 					found = true
 					break
 				}

@@ -138,27 +138,27 @@ func TestPriceBookBad(t *testing.T) {
 		sentinel       error
 		want           string
 	}{
-		{"unknown key", "innerduct_per_m: 2.40", "innerduct_per_metre: 2.40", ErrUnknownField, `x.yaml:62:1: field "innerduct_per_metre": unknown field`},
-		{"nested unknown key", "  splices_per_hour: 12", "  splice_per_hour: 12", ErrUnknownField, `field "labour.splice_per_hour": unknown field`},
-		{"three decimals", "innerduct_per_m: 2.40", "innerduct_per_m: 2.405", ErrBadValue, `field "innerduct_per_m": bad value: want an amount >= 0 with at most two decimals, such as 12.35, got "2.405"`},
-		{"negative", "  om4: 16.00", "  om4: -16.00", ErrBadValue, `field "termination_each.om4": bad value`},
-		{"text amount", "added_duct_per_m: 7.50", "added_duct_per_m: cheap", ErrBadValue, `field "added_duct_per_m": bad value`},
-		{"currency", "currency: USD", "currency: dollars", ErrBadValue, `field "currency": bad value: want an ISO 4217 code such as USD, got "dollars"`},
-		{"date", "prices_date: 2026-01-15", "prices_date: 2026-13-45", ErrBadValue, `field "prices_date": bad value: want a date YYYY-MM-DD`},
-		{"no label", "label: demo prices, invented, not a quotation\n", "", ErrMissingField, `field "label": missing field`},
-		{"surface", "  turf: 48.00", "  gravel: 48.00", ErrBadValue, `field "trench_per_m.gravel": bad value: want one of turf, asphalt, concrete, got "gravel"`},
-		{"structure", "  pull-box: 850.00", "  vault: 850.00", ErrBadValue, `field "structures_each.vault": bad value: want one of pull-box, handhole, maintenance-hole`},
-		{"pathway", "{duct: 60,", "{conduit: 60,", ErrBadValue, `field "labour.pull_m_per_hour.conduit": bad value: want one of duct, tunnel, aerial, buried, tray`},
-		{"zero rate", "  splices_per_hour: 12", "  splices_per_hour: 0", ErrBadValue, `field "labour.splices_per_hour": bad value: want a number per hour above 0 and at most 1000000, got 0`},
-		{"tax over 100", "  tax: 7.25", "  tax: 107.25", ErrBadValue, `field "markups_percent.tax": bad value: want a percentage from 0 to 100`},
-		{"strand count", "cmr-riser: {1: 0.95}", "cmr-riser: {0: 0.95}", ErrBadValue, `field "cable_per_m.cat6a.cmr-riser.0": bad value: want an integer from 1 to 10000, got 0`},
+		{"unknown key", "innerduct_per_m: 2.40", "innerduct_per_metre: 2.40", ErrUnknownField, `x.yaml:62:1: innerduct_per_metre: unknown key`},
+		{"nested unknown key", "  splices_per_hour: 12", "  splice_per_hour: 12", ErrUnknownField, `labour.splice_per_hour: unknown key`},
+		{"three decimals", "innerduct_per_m: 2.40", "innerduct_per_m: 2.405", ErrBadValue, `innerduct_per_m: want an amount >= 0 with at most two decimals, such as 12.35, got "2.405"`},
+		{"negative", "  om4: 16.00", "  om4: -16.00", ErrBadValue, `termination_each.om4: `},
+		{"text amount", "added_duct_per_m: 7.50", "added_duct_per_m: cheap", ErrBadValue, `added_duct_per_m: `},
+		{"currency", "currency: USD", "currency: dollars", ErrBadValue, `currency: want an ISO 4217 code such as USD, got "dollars"`},
+		{"date", "prices_date: 2026-01-15", "prices_date: 2026-13-45", ErrBadValue, `prices_date: want a date YYYY-MM-DD`},
+		{"no label", "label: demo prices, invented, not a quotation\n", "", ErrMissingField, `label: missing`},
+		{"surface", "  turf: 48.00", "  gravel: 48.00", ErrBadValue, `trench_per_m.gravel: want one of turf, asphalt, concrete, got "gravel"`},
+		{"structure", "  pull-box: 850.00", "  vault: 850.00", ErrBadValue, `structures_each.vault: want one of pull-box, handhole, maintenance-hole`},
+		{"pathway", "{duct: 60,", "{conduit: 60,", ErrBadValue, `labour.pull_m_per_hour.conduit: want one of duct, tunnel, aerial, buried, tray`},
+		{"zero rate", "  splices_per_hour: 12", "  splices_per_hour: 0", ErrBadValue, `labour.splices_per_hour: want a number per hour above 0 and at most 1000000, got 0`},
+		{"tax over 100", "  tax: 7.25", "  tax: 107.25", ErrBadValue, `markups_percent.tax: want a percentage from 0 to 100`},
+		{"strand count", "cmr-riser: {1: 0.95}", "cmr-riser: {0: 0.95}", ErrBadValue, `cable_per_m.cat6a.cmr-riser.0: want an integer from 1 to 10000, got 0`},
 		// IEEE 754: NaN fails every comparison, so a "<= 0" check lets it through.
-		{"NaN rate", "  splices_per_hour: 12", "  splices_per_hour: .nan", ErrBadValue, `field "labour.splices_per_hour": bad value: want a number per hour above 0 and at most 1000000, got ".nan"`},
-		{"huge tray", "splice_tray: {each: 38.00, strands: 12}", "splice_tray: {each: 38.00, strands: 9223372036854775807}", ErrBadValue, `field "splice_tray.strands": bad value: want an integer from 1 to 10000, got 9223372036854775807`},
-		{"huge enclosure", "fibre_enclosures: {24: 310.00,", "fibre_enclosures: {2400000: 310.00,", ErrBadValue, `field "fibre_enclosures.2400000": bad value: want an integer from 1 to 10000, got 2400000`},
+		{"NaN rate", "  splices_per_hour: 12", "  splices_per_hour: .nan", ErrBadValue, `labour.splices_per_hour: want a number per hour above 0 and at most 1000000, got NaN`},
+		{"huge tray", "splice_tray: {each: 38.00, strands: 12}", "splice_tray: {each: 38.00, strands: 9223372036854775807}", ErrBadValue, `splice_tray.strands: want an integer from 1 to 10000, got 9223372036854775807`},
+		{"huge enclosure", "fibre_enclosures: {24: 310.00,", "fibre_enclosures: {2400000: 310.00,", ErrBadValue, `fibre_enclosures.2400000: want an integer from 1 to 10000, got 2400000`},
 		// YAML 1.2.2 §3.2.1.1: the keys of a mapping are unique; yaml.v3 keeps the last.
-		{"duplicate price", "fibre_enclosures: {24: 310.00,", "fibre_enclosures: {24: 1.00, 24: 310.00,", ErrDuplicateKey, `x.yaml:58: field "fibre_enclosures.24": given twice, at line 58 and line 58; remove one`},
-		{"duplicate section", "splice_tray: {each: 38.00, strands: 12}", "splice_tray: {each: 38.00, strands: 12}\nsplice_tray: {each: 1.00, strands: 12}", ErrDuplicateKey, `x.yaml:51: field "splice_tray": given twice, at line 50 and line 51; remove one`},
+		{"duplicate price", "fibre_enclosures: {24: 310.00,", "fibre_enclosures: {24: 1.00, 24: 310.00,", ErrDuplicateKey, `x.yaml:58:30: fibre_enclosures.24: given twice, at line 58 and line 58; remove one`},
+		{"duplicate section", "splice_tray: {each: 38.00, strands: 12}", "splice_tray: {each: 38.00, strands: 12}\nsplice_tray: {each: 1.00, strands: 12}", ErrDuplicateKey, `x.yaml:51:1: splice_tray: given twice, at line 50 and line 51; remove one`},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
@@ -190,9 +190,9 @@ func TestPriceBookCheck(t *testing.T) {
 		t.Fatalf("got %v, want missing prices", err)
 	}
 	want := []string{
-		`prices-demo.yaml (embedded): price "cable om4 ofnr-riser 36": missing price: add cable_per_m.om4.ofnr-riser.36`,
-		`prices-demo.yaml (embedded): price "pull-rate submarine": missing price: add labour.pull_m_per_hour.submarine`,
-		`prices-demo.yaml (embedded): price "transceiver 800GBASE-DR8": missing price: add transceivers.800GBASE-DR8`,
+		`prices-demo.yaml (embedded): price "cable om4 ofnr-riser 36": missing; add cable_per_m.om4.ofnr-riser.36`,
+		`prices-demo.yaml (embedded): price "pull-rate submarine": missing; add labour.pull_m_per_hour.submarine`,
+		`prices-demo.yaml (embedded): price "transceiver 800GBASE-DR8": missing; add transceivers.800GBASE-DR8`,
 	}
 	if got := err.Error(); got != strings.Join(want, "\n") {
 		t.Errorf("got:\n%s\nwant:\n%s", got, strings.Join(want, "\n"))

@@ -7,6 +7,8 @@ import (
 	"unicode/utf8"
 
 	"go.yaml.in/yaml/v3"
+
+	"spanwright/geo/input"
 )
 
 // Rule effects, the values of Rule.Effect.
@@ -102,15 +104,14 @@ type ruleYAML struct {
 }
 
 // ParseRules reads a rule file from data; name is the file name used in messages. Every
-// problem is reported at once in an *ErrorList of *FileError; a malformed condition or an
+// problem is reported at once in an *input.Problems; a malformed condition or an
 // unknown fact is reported at its line and column in the file.
 func ParseRules(name string, data []byte) (*Rules, error) {
-	var errs ErrorList
+	var errs input.Problems
 	var f rulesFile
-	d := decoder{file: name, errs: &errs}
-	d.parseYAML(data, &f)
+	newDecoder(name, &errs).Parse(data, &f)
 	if errs.Len() > 0 && f.Pos.Keys == nil {
-		return nil, errs.Err()
+		return nil, sorted(&errs)
 	}
 	c := checker{file: name, errs: &errs}
 	c.require(f.Pos, "", "rules")
@@ -123,7 +124,7 @@ func ParseRules(name string, data []byte) (*Rules, error) {
 		}
 		r := &Rule{ID: ry.ID, Effect: ry.Effect, Reason: ry.Reason, Media: ry.Media, Kinds: ry.Kinds,
 			Source: ry.Source, Line: ry.Pos.Line}
-		r.mediaLine, _ = ry.Pos.at("media")
+		r.mediaLine, _ = ry.Pos.At("media")
 		ok := true
 		if !idRE.MatchString(ry.ID) {
 			c.bad(ry.Pos, item, "id", ErrBadValue, "want lower-case letters, digits and '-', got %q", ry.ID)
@@ -166,7 +167,7 @@ func ParseRules(name string, data []byte) (*Rules, error) {
 			rs.Rules = append(rs.Rules, r)
 		}
 	}
-	if err := errs.Err(); err != nil {
+	if err := sorted(&errs); err != nil {
 		return nil, err
 	}
 	return rs, nil
@@ -176,7 +177,7 @@ func ParseRules(name string, data []byte) (*Rules, error) {
 func (c checker) condFail(at func(int) (int, int), item, field string, err error) {
 	ce := err.(*condError)
 	line, col := at(ce.Off)
-	c.errs.Add(&FileError{File: c.file, Line: line, Col: col, Item: item, Field: field, Err: fmt.Errorf("%w: %s", ce.Kind, ce.Msg)})
+	c.errs.Add(&input.Problem{File: c.file, Line: line, Col: col, Item: item, Key: field, Err: input.Errorf(ce.Kind, "%s", ce.Msg)})
 }
 
 // scalarPos maps a byte offset in the value of scalar node n to its line and column

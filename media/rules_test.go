@@ -188,18 +188,18 @@ func TestRulesBad(t *testing.T) {
 		sentinel error
 		want     []string
 	}{
-		{"bad_condition.yaml", ErrSyntax, []string{`bad_condition.yaml:5:23: rule "too-long": field "when": syntax error: want a fact, number or string, got ">"`}},
-		{"unknown_fact.yaml", ErrUnknownFact, []string{`unknown_fact.yaml:8:23: rule "reach": field "when": unknown fact: unknown fact "chanel_m"; did you mean "channel_m"?`}},
+		{"bad_condition.yaml", ErrSyntax, []string{`bad_condition.yaml:5:23: rule "too-long": when: want a fact, number or string, got ">"`}},
+		{"unknown_fact.yaml", ErrUnknownFact, []string{`unknown_fact.yaml:8:23: rule "reach": when: unknown fact "chanel_m"; did you mean "channel_m"?`}},
 		{"unknown_field.yaml", ErrUnknownField, []string{
-			`unknown_field.yaml:3:5: rule "copper-100m": field "effect": missing field`,
-			`unknown_field.yaml:5:5: rule "copper-100m": field "efect": unknown field: want one of effect, id, kinds, media, reason, source, when`,
+			`unknown_field.yaml:3:5: rule "copper-100m": effect: missing`,
+			`unknown_field.yaml:5:5: rule "copper-100m": efect: unknown key; want one of effect, id, kinds, media, reason, source, when`,
 		}},
 		{"many.yaml", ErrDuplicateID, []string{
-			`many.yaml:10:38: rule "block": field "when": bad value: max_emi is one of none, low, high, got "severe"`,
-			`many.yaml:15:5: rule "bad-effect": field "effect": bad value: want exclude, require or prefer, got "forbid"`,
-			`many.yaml:20:20: rule "bad-template": field "reason": unknown fact: unknown fact "los_db"; did you mean "loss_db"?`,
-			`many.yaml:21:5: rule "ok-rule": field "id": duplicate id: rule "ok-rule" already defined at line 3`,
-			`many.yaml:22:42: rule "ok-rule": field "when": syntax error: want ")" to close an open "(", got end of condition`,
+			`many.yaml:10:38: rule "block": when: max_emi is one of none, low, high, got "severe"`,
+			`many.yaml:15:5: rule "bad-effect": effect: want exclude, require or prefer, got "forbid"`,
+			`many.yaml:20:20: rule "bad-template": reason: unknown fact "los_db"; did you mean "loss_db"?`,
+			`many.yaml:21:5: rule "ok-rule": id: rule "ok-rule" already defined at line 3`,
+			`many.yaml:22:42: rule "ok-rule": when: want ")" to close an open "(", got end of condition`,
 		}},
 	}
 	for _, tc := range cases {
@@ -233,9 +233,9 @@ func TestRulesUnknownCatalogNames(t *testing.T) {
 	}
 	_, err = NewEngine(nil, r, nil, EngineOptions{})
 	want := []string{
-		`unknown_medium.yaml:4: rule "no-om6": field "media": unknown reference: no medium "om6"`,
-		`unknown_medium.yaml:5:21: rule "no-om6": field "when": unknown reference: no medium "om7"`,
-		`unknown_medium.yaml:5:45: rule "no-om6": field "when": unknown reference: no application "10GBASE-ZR"`,
+		`unknown_medium.yaml:4: rule "no-om6": media: no medium "om6"`,
+		`unknown_medium.yaml:5:21: rule "no-om6": when: no medium "om7"`,
+		`unknown_medium.yaml:5:45: rule "no-om6": when: no application "10GBASE-ZR"`,
 	}
 	if err == nil {
 		t.Fatal("no error")
@@ -251,14 +251,14 @@ func TestRulesParseErrors(t *testing.T) {
 	t.Parallel()
 	cases := []struct{ name, src, want string }{
 		{"reserved id", "rules:\n  - {id: cost, when: outdoor, effect: exclude, reason: x}\n", `"cost" is reserved`},
-		{"bad kind", "rules:\n  - {id: a, kinds: [fibre], when: outdoor, effect: exclude, reason: x}\n", `field "kinds[0]": bad value`},
-		{"no rules key", "rule: []\n", `field "rule": unknown field`},
-		{"missing reason", "rules:\n  - {id: a, when: outdoor, effect: exclude}\n", `rule "a": field "reason": missing field`},
-		{"double-quoted position", "rules:\n  - id: a\n    when: \"outdoor and zz\"\n    effect: exclude\n    reason: x\n", `x.yaml:3:24: rule "a": field "when": unknown fact`},
-		{"literal block position", "rules:\n  - id: a\n    when: |\n      outdoor and\n        zz\n    effect: exclude\n    reason: x\n", `x.yaml:5:9: rule "a": field "when": unknown fact`},
+		{"bad kind", "rules:\n  - {id: a, kinds: [fibre], when: outdoor, effect: exclude, reason: x}\n", `kinds[0]: `},
+		{"no rules key", "rule: []\n", `rule: unknown key`},
+		{"missing reason", "rules:\n  - {id: a, when: outdoor, effect: exclude}\n", `rule "a": reason: missing`},
+		{"double-quoted position", "rules:\n  - id: a\n    when: \"outdoor and zz\"\n    effect: exclude\n    reason: x\n", `x.yaml:3:24: rule "a": when: `},
+		{"literal block position", "rules:\n  - id: a\n    when: |\n      outdoor and\n        zz\n    effect: exclude\n    reason: x\n", `x.yaml:5:9: rule "a": when: `},
 		// YAML 1.2.2 §3.2.1.1: the keys of a mapping are unique; yaml.v3 keeps the last.
-		{"effect given twice", "rules:\n  - id: a\n    when: outdoor\n    effect: prefer\n    effect: exclude\n    reason: x\n", `x.yaml:5: field "rules[0].effect": given twice, at line 4 and line 5; remove one`},
-		{"rules given twice", "rules: []\nrules:\n  - {id: a, when: outdoor, effect: exclude, reason: x}\n", `x.yaml:2: field "rules": given twice, at line 1 and line 2`},
+		{"effect given twice", "rules:\n  - id: a\n    when: outdoor\n    effect: prefer\n    effect: exclude\n    reason: x\n", `x.yaml:5:5: rules[0].effect: given twice, at line 4 and line 5; remove one`},
+		{"rules given twice", "rules: []\nrules:\n  - {id: a, when: outdoor, effect: exclude, reason: x}\n", `x.yaml:2:1: rules: given twice, at line 1 and line 2`},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {

@@ -706,12 +706,12 @@ func TestDesignValidation(t *testing.T) {
 	cases := []struct {
 		name, design, want string
 	}{
-		{"waste over 100", "{waste_pct: 150}", "design.waste_pct: invalid plan: want a percentage from 0 to 100, got 150"},
-		{"negative loop", "{slack_loop_structure_m: -1}", "p.yaml:2: design.slack_loop_structure_m: invalid plan: want metres from 0 to 1000, got -1"},
-		{"reel shorter than copper", "{reel_m: 50}", "design.reel_m: invalid plan: want metres from 100 to 100000, got 50"},
-		{"friction NaN", "{pull_mu: .nan}", "design.pull_mu: invalid plan: want a coefficient of friction from 0 to 2, got NaN"},
-		{"bends over NFPA 70", "{pull_bend_deg: 400}", "design.pull_bend_deg: invalid plan: want degrees above 0 and at most 360"},
-		{"negative pull length", "{pull_max_m: -5}", "design.pull_max_m: invalid plan: want metres from 0 to 100000, got -5"},
+		{"waste over 100", "{waste_pct: 150}", "design.waste_pct: want a percentage from 0 to 100, got 150"},
+		{"negative loop", "{slack_loop_structure_m: -1}", "p.yaml:2:34: design.slack_loop_structure_m: want metres from 0 to 1000, got -1"},
+		{"reel shorter than copper", "{reel_m: 50}", "design.reel_m: want metres from 100 to 100000, got 50"},
+		{"friction NaN", "{pull_mu: .nan}", "design.pull_mu: want a coefficient of friction from 0 to 2, got NaN"},
+		{"bends over NFPA 70", "{pull_bend_deg: 400}", "design.pull_bend_deg: want degrees above 0 and at most 360"},
+		{"negative pull length", "{pull_max_m: -5}", "design.pull_max_m: want metres from 0 to 100000, got -5"},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {

@@ -4,6 +4,8 @@ import (
 	"os"
 	"path/filepath"
 	"testing"
+
+	"spanwright/geo/input"
 )
 
 // FuzzParsePlan checks that no plan file, however broken, panics the plan reader: it returns
@@ -19,8 +21,12 @@ func FuzzParsePlan(f *testing.F) {
 	f.Add([]byte("campus: [c]\nbudget: [1]\ndefaults: 3\nlinks: {to: A}\nname: {a: b}\n"))
 	f.Fuzz(func(t *testing.T, data []byte) {
 		p, err := ParsePlan(filepath.Join("dir", "plan.yaml"), data)
-		if err == nil && len(p.validate()) > 0 {
-			t.Errorf("ParsePlan returned a plan that fails validation: %v", p.validate())
+		if err != nil {
+			return
+		}
+		var errs input.Problems
+		if p.validate(&errs); errs.Len() > 0 {
+			t.Errorf("ParsePlan returned a plan that fails validation: %v", &errs)
 		}
 	})
 }

@@ -5,6 +5,8 @@ import (
 	"sort"
 
 	"spanwright/geo"
+	"spanwright/geo/input"
+	"spanwright/media"
 )
 
 // Link is one backbone link the plan needs: a cable (or a diverse pair) from the
@@ -27,8 +29,9 @@ type Link struct {
 // building they name or add a link from another building. It returns every problem at once.
 func (s *Site) Links(p *Plan, hub string) ([]Link, []error) {
 	var errs []error
-	bad := func(line int, key, format string, args ...any) {
-		errs = append(errs, &PlanError{File: p.File, Line: line, Key: key, Err: fmt.Errorf("%w: "+format, append([]any{ErrPlan}, args...)...)})
+	var spec int // the entry of the plan's links list being resolved
+	bad := func(key, format string, args ...any) {
+		errs = append(errs, p.Problem(fmt.Sprintf("links[%d].%s", spec, key), input.Errorf(input.ErrBadValue, format, args...)))
 	}
 	var xcs []string // cross-connects other than the hub, sorted
 	for _, b := range s.Campus.Buildings {
@@ -72,23 +75,24 @@ func (s *Site) Links(p *Plan, hub string) ([]Link, []error) {
 		links = append(links, base(from, b.ID))
 	}
 	skip := map[int]bool{}
-	for _, ls := range p.Links {
+	for n, ls := range p.Links {
+		spec = n
 		if _, ok := s.building[ls.To]; !ok {
-			bad(ls.Line, "links.to", "unknown building %q", ls.To)
+			bad("to", "unknown building %q", ls.To)
 			continue
 		}
 		if ls.From != "" {
 			if _, ok := s.building[ls.From]; !ok {
-				bad(ls.Line, "links.from", "unknown building %q", ls.From)
+				bad("from", "unknown building %q", ls.From)
 				continue
 			}
 		}
 		if ls.To == hub && (ls.From == "" || ls.From == hub) {
-			bad(ls.Line, "links.to", "%q is the hub; a link needs two different buildings", ls.To)
+			bad("to", "%q is the hub; a link needs two different buildings", ls.To)
 			continue
 		}
 		if ls.From == ls.To {
-			bad(ls.Line, "links.from", "a link from %q to itself", ls.To)
+			bad("from", "a link from %q to itself", ls.To)
 			continue
 		}
 		i, ok := byTo[ls.To]
@@ -96,7 +100,7 @@ func (s *Site) Links(p *Plan, hub string) ([]Link, []error) {
 			if ok && (ls.From == "" || links[i].From == ls.From) {
 				skip[i] = true
 			} else {
-				bad(ls.Line, "links.skip", "no default link to %q from %q to skip", ls.To, ls.From)
+				bad("skip", "no default link to %q from %q to skip", ls.To, ls.From)
 			}
 			continue
 		}
@@ -149,4 +153,22 @@ func (s *Site) Links(p *Plan, hub string) ([]Link, []error) {
 	}
 	sort.SliceStable(out, func(i, j int) bool { return out[i].ID < out[j].ID })
 	return out, errs
+}
+
+// checkRates reports every rate of the plan the catalog does not know: the defaults' and
+// each link's own.
+func (p *Plan) checkRates(cat *media.Catalog) []error {
+	var errs []error
+	check := func(key, rate string) {
+		if _, err := cat.ParseRate(rate); rate != "" && err != nil {
+			errs = append(errs, p.Problem(key, err))
+		}
+	}
+	check("defaults.rate", p.Defaults.Rate)
+	check("defaults.future_rate", p.Defaults.FutureRate)
+	for i, l := range p.Links {
+		check(fmt.Sprintf("links[%d].rate", i), l.Rate)
+		check(fmt.Sprintf("links[%d].future_rate", i), l.FutureRate)
+	}
+	return errs
 }

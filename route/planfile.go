@@ -4,9 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"path/filepath"
-	"reflect"
-	"sort"
-	"strconv"
+	"slices"
 	"strings"
 
 	"go.yaml.in/yaml/v3"
@@ -28,25 +26,53 @@ const (
 
 // Plan is a parsed plan file. Paths in it are resolved against the plan file's folder.
 type Plan struct {
-	File     string   `yaml:"-"` // the plan file's path, for messages
-	Dir      string   `yaml:"-"` // the folder paths are relative to
-	Name     string   `yaml:"name"`
-	Campus   []string `yaml:"campus"`
-	Hub      string   `yaml:"hub"`
-	Budget   Money    `yaml:"budget"`
-	Defaults Defaults `yaml:"defaults"`
-	Links    []LinkSpec
-	Design   Design `yaml:"design"`
-	Catalog  string `yaml:"catalog"` // optional media catalog file
-	Rules    string `yaml:"rules"`   // optional rule file
-	Prices   string `yaml:"prices"`  // optional price book file
+	File     string     `yaml:"-"` // the plan file's path, for messages
+	Dir      string     `yaml:"-"` // the folder paths are relative to
+	Name     string     `yaml:"name"`
+	Campus   FileList   `yaml:"campus"`
+	Hub      string     `yaml:"hub"`
+	Budget   Money      `yaml:"budget"`
+	Defaults Defaults   `yaml:"defaults"`
+	Links    []LinkSpec `yaml:"links"`
+	Design   Design     `yaml:"design"`
+	Catalog  string     `yaml:"catalog"` // optional media catalog file
+	Rules    string     `yaml:"rules"`   // optional rule file
+	Prices   string     `yaml:"prices"`  // optional price book file
 
 	// MaxInputBytes caps each file the plan reads (campus, catalog, rules, prices), in
 	// bytes; 0 for the defaults (input.DefaultDataMiB MiB for GeoJSON, input.DefaultTextMiB
 	// for YAML). It is not read from the file: the command line sets it.
 	MaxInputBytes int64 `yaml:"-"`
 
-	lines map[string]int // line of each key given in a section or a link, by key path ("design.slack_m", "links[2].growth")
+	at map[string]input.Pos // position of each key and list element given, by key path ("design.slack_m", "links[2]")
+}
+
+// FileList is one file name or a list of them.
+type FileList []string
+
+// UnmarshalYAML reads a file name or a list of file names.
+func (f *FileList) UnmarshalYAML(n *yaml.Node) error {
+	bad := input.Errorf(input.ErrWrongType, "want a file name or a list of file names, got %s", input.KindName(n))
+	switch n.Kind {
+	case yaml.ScalarNode:
+		if n.Tag != "!!str" {
+			return bad
+		}
+		*f = FileList{n.Value}
+		return nil
+	case yaml.SequenceNode:
+		var out FileList
+		for _, it := range n.Content {
+			it = input.Resolve(it)
+			if it.Kind != yaml.ScalarNode || it.Tag != "!!str" {
+				return bad
+			}
+			out = append(out, it.Value)
+		}
+		*f = out
+		return nil
+	}
+	return bad
 }
 
 // Defaults apply to every link that does not say otherwise.
@@ -61,7 +87,7 @@ type Defaults struct {
 // LinkSpec is one entry of the plan's links list. Empty fields take the defaults; From empty
 // means the building's nearest cross-connect (the hub for an ic).
 type LinkSpec struct {
-	Line       int      `yaml:"-"` // line in the plan file, for messages
+	Line       int      `yaml:"-"` // line of the entry in the plan file
 	From       string   `yaml:"from"`
 	To         string   `yaml:"to"`
 	Rate       string   `yaml:"rate"`
@@ -109,9 +135,12 @@ type Money int64
 
 // UnmarshalYAML reads a decimal amount without going through a float.
 func (m *Money) UnmarshalYAML(n *yaml.Node) error {
+	if n.Kind != yaml.ScalarNode || n.Tag == "!!null" {
+		return input.Errorf(input.ErrWrongType, "want an amount such as 1250000 or 99.95, got %s", input.KindName(n))
+	}
 	c, err := ParseCents(n.Value)
 	if err != nil {
-		return err
+		return input.Errorf(input.ErrBadValue, "%v", err)
 	}
 	*m = Money(c)
 	return nil
@@ -165,30 +194,28 @@ var PlanDefaults = Plan{
 	},
 }
 
-// PlanError is one problem in a plan file: the file, the line (1-based, 0 when unknown),
-// the key and what is wrong.
-type PlanError struct {
-	File string
-	Line int
-	Key  string
-	Err  error
-}
-
-func (e *PlanError) Error() string {
-	loc := e.File
-	if e.Line > 0 {
-		loc = fmt.Sprintf("%s:%d", e.File, e.Line)
-	}
-	if e.Key != "" {
-		return fmt.Sprintf("%s: %s: %v", loc, e.Key, e.Err)
-	}
-	return fmt.Sprintf("%s: %v", loc, e.Err)
-}
-
-func (e *PlanError) Unwrap() error { return e.Err }
-
-// ErrPlan marks a plan file problem.
+// ErrPlan matches, through errors.Is, every problem of a plan file: each is an
+// *input.Problem whose Class is ErrPlan.
 var ErrPlan = errors.New("invalid plan")
+
+// Problem returns a problem of the plan file at key, a key path ("design.slack_m",
+// "links[2].to"): at the key's line and column, or for a key the file leaves out at its
+// section's, or nowhere when the file has neither.
+func (p *Plan) Problem(key string, err error) *input.Problem {
+	pos, path := input.Pos{}, key
+	for path != "" {
+		if at, ok := p.at[path]; ok {
+			pos = at
+			break
+		}
+		i := strings.LastIndexAny(path, ".[")
+		if i < 0 {
+			break
+		}
+		path = path[:i]
+	}
+	return input.Place(input.Problem{File: p.File, Line: pos.Line, Col: pos.Col, Key: key, Class: ErrPlan}, err)
+}
 
 // LoadPlan reads and validates a plan file, a regular file of at most input.DefaultTextMiB
 // MiB.
@@ -199,7 +226,7 @@ func LoadPlan(path string) (*Plan, error) { return LoadPlanLimit(path, 0) }
 func LoadPlanLimit(path string, maxBytes int64) (*Plan, error) {
 	data, err := input.ReadFile(path, input.Cap(maxBytes, input.DefaultTextMiB))
 	if err != nil {
-		return nil, &PlanError{File: path, Err: fmt.Errorf("%w: read: %w", ErrPlan, input.Cause(err))}
+		return nil, &input.Problem{File: path, Err: fmt.Errorf("read: %w", input.Cause(err)), Class: ErrPlan}
 	}
 	p, err := ParsePlan(path, data)
 	if err != nil {
@@ -210,227 +237,74 @@ func LoadPlanLimit(path string, maxBytes int64) (*Plan, error) {
 }
 
 // ParsePlan reads a plan from data; name is the plan file's path, used for messages and to
-// resolve the relative paths in it.
+// resolve the relative paths in it. Every problem of the file comes back at once, as an
+// *input.Problems in line order.
 func ParsePlan(name string, data []byte) (*Plan, error) {
-	var root yaml.Node
-	if err := yaml.Unmarshal(data, &root); err != nil {
-		return nil, &PlanError{File: name, Err: fmt.Errorf("%w: not YAML: %v", ErrPlan, err)}
-	}
-	if len(root.Content) == 0 || root.Content[0].Kind != yaml.MappingNode {
-		return nil, &PlanError{File: name, Err: fmt.Errorf("%w: want a mapping of plan keys", ErrPlan)}
-	}
 	p := PlanDefaults
 	p.File = name
 	p.Dir = filepath.Dir(name)
-	var errs []error
-	for _, d := range input.YAMLDuplicates(&root) {
-		errs = append(errs, &PlanError{File: name, Line: d.Line, Key: d.Where(), Err: fmt.Errorf("%w: %w", ErrPlan, d.Err())})
+	p.at = map[string]input.Pos{}
+	var errs input.Problems
+	d := &input.Decoder{File: name, Problems: &errs, Class: ErrPlan, Where: p.at, RangeOf: SettingRange}
+	if root := d.Parse(data, &p); root != nil && input.Resolve(root).Kind == yaml.MappingNode {
+		for i := range p.Links {
+			p.Links[i].Line = p.at[fmt.Sprintf("links[%d]", i)].Line
+		}
+		p.validate(&errs)
 	}
-	input.DropYAMLDuplicates(&root) // reported: check the rest as if each key were given once
-	if err := decodeStrict(root.Content[0], &p, name); err != nil {
-		errs = append(errs, err...)
-	}
-	p.lines = numberLines(root.Content[0])
-	errs = append(errs, p.validate()...)
-	if len(errs) > 0 {
-		return nil, &ErrorList{Errs: errs}
+	errs.Sort()
+	if err := errs.Err(); err != nil {
+		return nil, err
 	}
 	return &p, nil
 }
 
-// decodeStrict decodes a plan mapping, reporting unknown keys with their lines.
-func decodeStrict(n *yaml.Node, p *Plan, file string) []error {
-	var errs []error
-	known := map[string]bool{"name": true, "campus": true, "hub": true, "budget": true,
-		"defaults": true, "links": true, "design": true, "catalog": true, "rules": true, "prices": true}
-	for i := 0; i+1 < len(n.Content); i += 2 {
-		k, v := n.Content[i], n.Content[i+1]
-		if !known[k.Value] {
-			errs = append(errs, &PlanError{File: file, Line: k.Line, Key: k.Value,
-				Err: fmt.Errorf("%w: unknown key; want one of %s", ErrPlan, keyList(known))})
-			continue
-		}
-		var err error
-		switch k.Value {
-		case "links":
-			err = decodeLinks(v, p)
-		case "campus":
-			if v.Kind == yaml.ScalarNode {
-				p.Campus = []string{v.Value}
-			} else {
-				err = v.Decode(&p.Campus)
-			}
-		default:
-			err = decodeKnown(v, fieldOf(p, k.Value))
-		}
-		if err != nil {
-			errs = append(errs, &PlanError{File: file, Line: v.Line, Key: k.Value, Err: fmt.Errorf("%w: %v", ErrPlan, cleanYAMLErr(err))})
-		}
+// validate adds to errs the problems the walker cannot see: values outside a list of
+// choices, keys that must go together. Numbers are in range: the walker checked them
+// (SettingRange) and left the default where one was not.
+func (p *Plan) validate(errs *input.Problems) {
+	bad := func(key string, kind error, format string, args ...any) {
+		errs.Add(p.Problem(key, input.Errorf(kind, format, args...)))
 	}
-	return errs
-}
-
-func fieldOf(p *Plan, key string) any {
-	switch key {
-	case "name":
-		return &p.Name
-	case "hub":
-		return &p.Hub
-	case "budget":
-		return &p.Budget
-	case "defaults":
-		return &p.Defaults
-	case "design":
-		return &p.Design
-	case "catalog":
-		return &p.Catalog
-	case "rules":
-		return &p.Rules
-	case "prices":
-		return &p.Prices
-	}
-	panic("route: no plan field for key " + key)
-}
-
-func decodeLinks(n *yaml.Node, p *Plan) error {
-	if n.Kind != yaml.SequenceNode {
-		return fmt.Errorf("want a list of links")
-	}
-	p.Links = nil
-	for _, item := range n.Content {
-		var ls LinkSpec
-		if err := decodeKnown(item, &ls); err != nil {
-			return fmt.Errorf("link at line %d: %v", item.Line, cleanYAMLErr(err))
-		}
-		ls.Line = item.Line
-		p.Links = append(p.Links, ls)
-	}
-	return nil
-}
-
-// decodeKnown decodes n into out, a pointer, as a yaml.Decoder with KnownFields does: a key
-// of a mapping that names no field of the struct it fills is an error. The errors come as
-// one *yaml.TypeError in line order, each with its line in the plan file.
-func decodeKnown(n *yaml.Node, out any) error {
-	var msgs []string
-	if t := reflect.TypeOf(out).Elem(); t.Kind() == reflect.Struct && n.Kind == yaml.MappingNode {
-		fields := map[string]bool{}
-		for i := 0; i < t.NumField(); i++ {
-			name, _, _ := strings.Cut(t.Field(i).Tag.Get("yaml"), ",")
-			if name == "" {
-				name = strings.ToLower(t.Field(i).Name)
-			}
-			if name != "-" {
-				fields[name] = true
+	reported := func(keys ...string) bool {
+		for _, e := range errs.List {
+			if slices.Contains(keys, e.Key) {
+				return true
 			}
 		}
-		for i := 0; i+1 < len(n.Content); i += 2 {
-			k := n.Content[i]
-			if !fields[k.Value] && k.Tag != "!!merge" {
-				msgs = append(msgs, fmt.Sprintf("line %d: field %s not found in type %s", k.Line, k.Value, t))
-			}
-		}
+		return false
 	}
-	err := n.Decode(out)
-	if len(msgs) == 0 {
-		return err
-	}
-	var te *yaml.TypeError
-	if err != nil {
-		if !errors.As(err, &te) {
-			return err
-		}
-		msgs = append(msgs, te.Errors...)
-	}
-	sort.SliceStable(msgs, func(i, j int) bool { return msgLine(msgs[i]) < msgLine(msgs[j]) })
-	return &yaml.TypeError{Errors: msgs}
-}
-
-// msgLine is the line number a YAML decoding message starts with, or 0.
-func msgLine(m string) int {
-	rest, ok := strings.CutPrefix(m, "line ")
-	if !ok {
-		return 0
-	}
-	num, _, _ := strings.Cut(rest, ":")
-	n, _ := strconv.Atoi(num)
-	return n
-}
-
-func cleanYAMLErr(err error) string {
-	s := err.Error()
-	s = strings.TrimPrefix(s, "yaml: unmarshal errors:\n")
-	s = strings.ReplaceAll(s, "\n  ", "; ")
-	return strings.TrimSpace(s)
-}
-
-func keyList(m map[string]bool) string {
-	keys := make([]string, 0, len(m))
-	for k := range m {
-		keys = append(keys, k)
-	}
-	sort.Strings(keys)
-	return strings.Join(keys, ", ")
-}
-
-func (p *Plan) validate() []error {
-	var errs []error
-	bad := func(line int, key, format string, args ...any) {
-		errs = append(errs, &PlanError{File: p.File, Line: line, Key: key, Err: fmt.Errorf("%w: "+format, append([]any{ErrPlan}, args...)...)})
-	}
-	if len(p.Campus) == 0 {
-		bad(0, "campus", "want at least one campus GeoJSON file")
-	}
-	for _, k := range planNumbers {
-		var err error
-		if k.getInt != nil {
-			err = k.r.CheckInt(int64(k.getInt(p)))
+	if len(p.Campus) == 0 && !reported("campus") {
+		if _, given := p.at["campus"]; given {
+			bad("campus", input.ErrBadValue, "want at least one campus GeoJSON file, got none")
 		} else {
-			err = k.r.Check(k.get(p))
-		}
-		if err != nil {
-			bad(p.lines[k.key], k.key, "%w", err)
+			bad("campus", input.ErrMissingKey, "missing; name at least one campus GeoJSON file")
 		}
 	}
 	d := p.Defaults
 	if d.Redundancy != RedundancyNone && d.Redundancy != RedundancyDiverse {
-		bad(p.lines["defaults.redundancy"], "defaults.redundancy", "want %q or %q, got %q", RedundancyNone, RedundancyDiverse, d.Redundancy)
+		bad("defaults.redundancy", input.ErrBadValue, "want %q or %q, got %q", RedundancyNone, RedundancyDiverse, d.Redundancy)
 	}
 	for i, l := range p.Links {
-		if l.To == "" {
-			bad(l.Line, "links", "a link needs to: (the building served)")
+		key := fmt.Sprintf("links[%d].", i)
+		if l.To == "" && !reported(key+"to") {
+			bad(key+"to", input.ErrMissingKey, "missing; a link names the building it serves")
 		}
 		if l.Redundancy != "" && l.Redundancy != RedundancyNone && l.Redundancy != RedundancyDiverse {
-			bad(l.Line, "links.redundancy", "want %q or %q, got %q", RedundancyNone, RedundancyDiverse, l.Redundancy)
-		}
-		at := func(key string) int {
-			if line, ok := p.lines[fmt.Sprintf("links[%d].%s", i, key)]; ok {
-				return line
-			}
-			return l.Line
-		}
-		if err := linkStrandsRange.CheckInt(int64(l.Strands)); err != nil {
-			bad(at("strands"), "links.strands", "%w", err)
-		}
-		if l.Growth != nil {
-			if err := growthRange.Check(*l.Growth); err != nil {
-				bad(at("growth"), "links.growth", "%w", err)
-			}
+			bad(key+"redundancy", input.ErrBadValue, "want %q or %q, got %q", RedundancyNone, RedundancyDiverse, l.Redundancy)
 		}
 	}
 	g := p.Design
 	if g.Objective != ObjectiveCost && g.Objective != ObjectiveLength {
-		bad(p.lines["design.objective"], "design.objective", "want %q or %q, got %q", ObjectiveCost, ObjectiveLength, g.Objective)
+		bad("design.objective", input.ErrBadValue, "want %q or %q, got %q", ObjectiveCost, ObjectiveLength, g.Objective)
 	}
 	switch {
-	case planRange("design.innerduct_od_mm").Check(g.InnerductODMM) != nil || planRange("design.innerduct_id_mm").Check(g.InnerductIDMM) != nil:
-		// reported above
+	case reported("design.innerduct_od_mm", "design.innerduct_id_mm"):
 	case g.InnerductODMM == 0 && g.InnerductIDMM != 0:
-		bad(p.lines["design.innerduct_id_mm"], "design.innerduct_id_mm", "want it only with design.innerduct_od_mm, got %g without", g.InnerductIDMM)
+		bad("design.innerduct_id_mm", input.ErrBadValue, "want it only with design.innerduct_od_mm, got %g without", g.InnerductIDMM)
 	case g.InnerductODMM > 0 && !(g.InnerductIDMM > 0 && g.InnerductIDMM < g.InnerductODMM):
-		bad(p.lines["design.innerduct_id_mm"], "design.innerduct_id_mm", "want millimetres above 0 and below innerduct_od_mm (%g), got %g", g.InnerductODMM, g.InnerductIDMM)
+		bad("design.innerduct_id_mm", input.ErrBadValue, "want millimetres above 0 and below innerduct_od_mm (%g), got %g", g.InnerductODMM, g.InnerductIDMM)
 	}
-	return errs
 }
 
 // MaxStrands is the most strands a link may ask for: the largest cables hold a few thousand
@@ -444,10 +318,8 @@ var (
 
 // planNumber is a numeric key of the plan's defaults or design sections and its range.
 type planNumber struct {
-	key    string
-	r      input.Range
-	get    func(*Plan) float64
-	getInt func(*Plan) int // instead of get for an integer key, so that its message shows it exactly
+	key string
+	r   input.Range
 }
 
 // planNumbers are the ranges of the numeric keys of the defaults and design sections, in
@@ -455,76 +327,44 @@ type planNumber struct {
 // (SettingRange). The ends are generous: they catch NaN, infinities, overflowing integers and
 // slips of unit, not unusual designs.
 var planNumbers = []planNumber{
-	{key: "defaults.strands", r: input.Range{Min: 1, Max: MaxStrands, Whole: true, Unit: "strands"}, getInt: func(p *Plan) int { return p.Defaults.Strands }},
-	{key: "defaults.growth", r: growthRange, get: func(p *Plan) float64 { return p.Defaults.Growth }},
-	{key: "design.loss_margin_db", r: input.Range{Min: 0, Max: 50, Unit: "dB"}, get: func(p *Plan) float64 { return p.Design.LossMarginDB }},
-	{key: "design.max_lateral_m", r: input.Range{Min: 0, AboveMin: true, Max: 1000, Unit: "metres"}, get: func(p *Plan) float64 { return p.Design.MaxLateralM }},
-	{key: "design.snap_m", r: input.Range{Min: 0, AboveMin: true, Max: 100, Unit: "metres"}, get: func(p *Plan) float64 { return p.Design.SnapM }},
-	{key: "design.slack_m", r: input.Range{Min: 0, Max: 1000, Unit: "metres"}, get: func(p *Plan) float64 { return p.Design.SlackM }},
-	{key: "design.pair_loss_db", r: input.Range{Min: 0, Max: 10, Unit: "dB"}, get: func(p *Plan) float64 { return p.Design.PairLossDB }},
-	{key: "design.splice_loss_db", r: input.Range{Min: 0, Max: 10, Unit: "dB"}, get: func(p *Plan) float64 { return p.Design.SpliceLossDB }},
-	{key: "design.waste_pct", r: input.Range{Min: 0, Max: 100, Unit: "a percentage"}, get: func(p *Plan) float64 { return p.Design.WastePct }},
-	{key: "design.slack_loop_entrance_m", r: input.Range{Min: 0, Max: 1000, Unit: "metres"}, get: func(p *Plan) float64 { return p.Design.SlackLoopEntranceM }},
-	{key: "design.slack_loop_structure_m", r: input.Range{Min: 0, Max: 1000, Unit: "metres"}, get: func(p *Plan) float64 { return p.Design.SlackLoopStructureM }},
+	{key: "defaults.strands", r: input.Range{Min: 1, Max: MaxStrands, Whole: true, Unit: "strands"}},
+	{key: "defaults.growth", r: growthRange},
+	{key: "design.loss_margin_db", r: input.Range{Min: 0, Max: 50, Unit: "dB"}},
+	{key: "design.max_lateral_m", r: input.Range{Min: 0, AboveMin: true, Max: 1000, Unit: "metres"}},
+	{key: "design.snap_m", r: input.Range{Min: 0, AboveMin: true, Max: 100, Unit: "metres"}},
+	{key: "design.slack_m", r: input.Range{Min: 0, Max: 1000, Unit: "metres"}},
+	{key: "design.pair_loss_db", r: input.Range{Min: 0, Max: 10, Unit: "dB"}},
+	{key: "design.splice_loss_db", r: input.Range{Min: 0, Max: 10, Unit: "dB"}},
+	{key: "design.waste_pct", r: input.Range{Min: 0, Max: 100, Unit: "a percentage"}},
+	{key: "design.slack_loop_entrance_m", r: input.Range{Min: 0, Max: 1000, Unit: "metres"}},
+	{key: "design.slack_loop_structure_m", r: input.Range{Min: 0, Max: 1000, Unit: "metres"}},
 	// A copper channel cannot be spliced, so a reel holds one at least.
-	{key: "design.reel_m", r: input.Range{Min: MaxCopperChannelM, Max: 100000, Unit: "metres"}, get: func(p *Plan) float64 { return p.Design.ReelM }},
-	{key: "design.pull_mu", r: input.Range{Min: 0, Max: 2, Unit: "a coefficient of friction"}, get: func(p *Plan) float64 { return p.Design.PullMu }},
+	{key: "design.reel_m", r: input.Range{Min: MaxCopperChannelM, Max: 100000, Unit: "metres"}},
+	{key: "design.pull_mu", r: input.Range{Min: 0, Max: 2, Unit: "a coefficient of friction"}},
 	// NFPA 70 allows 360° of bends per raceway run.
-	{key: "design.pull_bend_deg", r: input.Range{Min: 0, AboveMin: true, Max: 360, Unit: "degrees"}, get: func(p *Plan) float64 { return p.Design.PullBendDeg }},
-	{key: "design.pull_max_m", r: input.Range{Min: 0, Max: 100000, Unit: "metres"}, get: func(p *Plan) float64 { return p.Design.PullMaxM }},
-	{key: "design.pull_max_swbp_n_per_m", r: input.Range{Min: 0, Max: 100000, Unit: "N/m"}, get: func(p *Plan) float64 { return p.Design.PullMaxSWBPNPerM }},
-	{key: "design.innerduct_od_mm", r: input.Range{Min: 0, Max: 1000, Unit: "millimetres"}, get: func(p *Plan) float64 { return p.Design.InnerductODMM }},
-	{key: "design.innerduct_id_mm", r: input.Range{Min: 0, Max: 1000, Unit: "millimetres"}, get: func(p *Plan) float64 { return p.Design.InnerductIDMM }},
-}
-
-func planRange(key string) input.Range {
-	r, ok := SettingRange(key)
-	if !ok {
-		panic("route: no range for plan key " + key)
-	}
-	return r
+	{key: "design.pull_bend_deg", r: input.Range{Min: 0, AboveMin: true, Max: 360, Unit: "degrees"}},
+	{key: "design.pull_max_m", r: input.Range{Min: 0, Max: 100000, Unit: "metres"}},
+	{key: "design.pull_max_swbp_n_per_m", r: input.Range{Min: 0, Max: 100000, Unit: "N/m"}},
+	{key: "design.innerduct_od_mm", r: input.Range{Min: 0, Max: 1000, Unit: "millimetres"}},
+	{key: "design.innerduct_id_mm", r: input.Range{Min: 0, Max: 1000, Unit: "millimetres"}},
 }
 
 // SettingRange returns the range of a numeric plan setting by dotted key
-// ("design.slack_m"), and false for a key that is not numeric.
+// ("design.slack_m", "links.growth" for every link's), and false for a key that is not
+// numeric.
 func SettingRange(key string) (input.Range, bool) {
+	switch key {
+	case "links.strands":
+		return linkStrandsRange, true
+	case "links.growth":
+		return growthRange, true
+	}
 	for _, k := range planNumbers {
 		if k.key == key {
 			return k.r, true
 		}
 	}
 	return input.Range{}, false
-}
-
-// numberLines records the line of each key of the defaults and design sections and of each
-// link, by key path, so that a value out of range is reported where it was written.
-func numberLines(root *yaml.Node) map[string]int {
-	lines := map[string]int{}
-	for i := 0; i+1 < len(root.Content); i += 2 {
-		k, v := root.Content[i], resolveAlias(root.Content[i+1])
-		lines[k.Value] = k.Line
-		switch {
-		case v.Kind == yaml.MappingNode:
-			for j := 0; j+1 < len(v.Content); j += 2 {
-				lines[k.Value+"."+v.Content[j].Value] = v.Content[j].Line
-			}
-		case k.Value == "links" && v.Kind == yaml.SequenceNode:
-			for li, item := range v.Content {
-				item = resolveAlias(item)
-				for j := 0; j+1 < len(item.Content); j += 2 {
-					lines[fmt.Sprintf("links[%d].%s", li, item.Content[j].Value)] = item.Content[j].Line
-				}
-			}
-		}
-	}
-	return lines
-}
-
-func resolveAlias(n *yaml.Node) *yaml.Node {
-	for n.Kind == yaml.AliasNode && n.Alias != nil {
-		n = n.Alias
-	}
-	return n
 }
 
 // Path resolves a path named in the plan against the plan file's folder.
@@ -535,16 +375,12 @@ func (p *Plan) Path(name string) string {
 	return filepath.Join(p.Dir, name)
 }
 
-// ErrorList is every problem of one run, reported at once.
-type ErrorList struct{ Errs []error }
-
-func (l *ErrorList) Error() string {
-	s := make([]string, len(l.Errs))
-	for i, e := range l.Errs {
-		s[i] = e.Error()
+// problems is errs as one *input.Problems, in file and line order.
+func problems(errs []error) error {
+	var l input.Problems
+	for _, e := range errs {
+		l.Add(e)
 	}
-	return strings.Join(s, "\n")
+	l.Sort()
+	return l.Err()
 }
-
-// Unwrap lets errors.Is and errors.As see every problem.
-func (l *ErrorList) Unwrap() []error { return l.Errs }

@@ -52,23 +52,23 @@ func TestParsePlanErrors(t *testing.T) {
 		name, yaml string
 		want       []string
 	}{
-		{"not yaml", "campus: [", []string{"plan.yaml: invalid plan: not YAML"}},
-		{"not a mapping", "- a\n- b\n", []string{"want a mapping of plan keys"}},
-		{"unknown key", "campus: [c.geojson]\nbudgit: 3\n", []string{"plan.yaml:2: budgit: invalid plan: unknown key"}},
-		{"unknown nested key", "campus: [c.geojson]\ndesign: {snap: 2}\n", []string{"plan.yaml:2: design:", "field snap not found"}},
-		{"unknown link key", "campus: [c.geojson]\nlinks:\n  - {to: A, speed: 10G}\n", []string{"link at line 3", "field speed not found"}},
-		{"no campus", "name: x\n", []string{"campus: invalid plan: want at least one campus GeoJSON file"}},
-		{"bad budget", "campus: [c]\nbudget: 12.345\n", []string{"budget", "want an amount"}},
-		{"bad redundancy", "campus: [c]\ndefaults: {redundancy: double}\n", []string{`defaults.redundancy: invalid plan: want "none" or "diverse", got "double"`}},
-		{"link without to", "campus: [c]\nlinks:\n  - {from: A}\n", []string{"plan.yaml:3: links: invalid plan: a link needs to:"}},
-		{"bad objective", "campus: [c]\ndesign: {objective: speed}\n", []string{`design.objective`, `got "speed"`}},
-		// Decoding messages carry the line in the plan file, in line order, unknown fields and
-		// bad values together.
+		{"not yaml", "campus: [", []string{"plan.yaml:1: not YAML: did not find expected node content"}},
+		{"not a mapping", "- a\n- b\n", []string{"plan.yaml:1:1: want a mapping, got a list"}},
+		{"unknown key", "campus: [c.geojson]\nbudgit: 3\n", []string{"plan.yaml:2:1: budgit: unknown key; want one of budget, campus, catalog, defaults, design, hub, links, name, prices, rules"}},
+		{"unknown nested key", "campus: [c.geojson]\ndesign: {snap: 2}\n", []string{"plan.yaml:2:10: design.snap: unknown key; want one of allow_new_trench, "}},
+		{"unknown link key", "campus: [c.geojson]\nlinks:\n  - {to: A, speed: 10G}\n", []string{"plan.yaml:3:13: links[0].speed: unknown key; want one of from, future_rate, growth, rate, redundancy, skip, strands, to"}},
+		{"no campus", "name: x\n", []string{"plan.yaml: campus: missing; name at least one campus GeoJSON file"}},
+		{"bad budget", "campus: [c]\nbudget: 12.345\n", []string{`plan.yaml:2:9: budget: want an amount such as 1250000 or 99.95, got "12.345"`}},
+		{"bad redundancy", "campus: [c]\ndefaults: {redundancy: double}\n", []string{`plan.yaml:2:24: defaults.redundancy: want "none" or "diverse", got "double"`}},
+		{"link without to", "campus: [c]\nlinks:\n  - {from: A}\n", []string{"plan.yaml:3:5: links[0].to: missing; a link names the building it serves"}},
+		{"bad objective", "campus: [c]\ndesign: {objective: speed}\n", []string{`plan.yaml:2:21: design.objective: want "cost" or "length", got "speed"`}},
+		// Each problem on its own line, with its line and column, in line order: unknown keys
+		// and bad values together, named by their key path, never by a Go type.
 		{"nested problems on their own lines", "campus: [c]\ndesign:\n  snap: 2\n  loss_margin_db: lots\n  pull_mu: 0.3\n  slak_m: 1\n",
-			[]string{"line 3: field snap not found in type route.Design; line 4: cannot unmarshal !!str `lots` into float64; line 6: field slak_m not found"}},
-		{"innerduct inside without outside", "campus: [c]\ndesign: {innerduct_id_mm: 27}\n", []string{"design.innerduct_id_mm", "only with design.innerduct_od_mm"}},
-		{"innerduct inside not below outside", "campus: [c]\ndesign: {innerduct_od_mm: 32, innerduct_id_mm: 32}\n", []string{"design.innerduct_id_mm", "below innerduct_od_mm (32), got 32"}},
-		{"negative sidewall limit", "campus: [c]\ndesign: {pull_max_swbp_n_per_m: -1}\n", []string{"design.pull_max_swbp_n_per_m", "design.pull_max_swbp_n_per_m: invalid plan: want N/m from 0 to 100000, got -1"}},
+			[]string{"plan.yaml:3:3: design.snap: unknown key; want one of ", "\nplan.yaml:4:19: design.loss_margin_db: want a number, got \"lots\"\nplan.yaml:6:3: design.slak_m: unknown key"}},
+		{"innerduct inside without outside", "campus: [c]\ndesign: {innerduct_id_mm: 27}\n", []string{"plan.yaml:2:27: design.innerduct_id_mm: want it only with design.innerduct_od_mm, got 27 without"}},
+		{"innerduct inside not below outside", "campus: [c]\ndesign: {innerduct_od_mm: 32, innerduct_id_mm: 32}\n", []string{"plan.yaml:2:48: design.innerduct_id_mm: want millimetres above 0 and below innerduct_od_mm (32), got 32"}},
+		{"negative sidewall limit", "campus: [c]\ndesign: {pull_max_swbp_n_per_m: -1}\n", []string{"plan.yaml:2:33: design.pull_max_swbp_n_per_m: want N/m from 0 to 100000, got -1"}},
 		{"several problems at once", "campus: [c]\ndefaults: {strands: 0, growth: -1}\ndesign: {snap_m: 0}\n",
 			[]string{"defaults.strands", "defaults.growth", "design.snap_m"}},
 	}
@@ -113,17 +113,17 @@ func TestParsePlanNumbers(t *testing.T) {
 	t.Parallel()
 	cases := []struct{ name, yaml, want string }{
 		// YAML 1.2.2 §10.2.1.4: .nan and .inf are floats; IEEE 754: NaN fails every comparison.
-		{"growth NaN", "campus: [c]\ndefaults:\n  growth: .nan\n", "plan.yaml:3: defaults.growth: invalid plan: want a fraction from 0 to 10, got NaN"},
-		{"growth huge", "campus: [c]\ndefaults: {growth: 1e308}\n", "plan.yaml:2: defaults.growth: invalid plan: want a fraction from 0 to 10, got 1e+308"},
+		{"growth NaN", "campus: [c]\ndefaults:\n  growth: .nan\n", "plan.yaml:3:11: defaults.growth: want a fraction from 0 to 10, got NaN"},
+		{"growth huge", "campus: [c]\ndefaults: {growth: 1e308}\n", "plan.yaml:2:20: defaults.growth: want a fraction from 0 to 10, got 1e+308"},
 		// Go spec: int is 64 bits here, so strands times growth overflows.
-		{"strands overflow", "campus: [c]\ndefaults:\n  rate: 10G\n  strands: 9223372036854775807\n", "plan.yaml:4: defaults.strands: invalid plan: want a whole number of strands from 1 to 10000, got 9223372036854775807"},
-		{"link strands overflow", "campus: [c]\nlinks:\n  - to: A\n    strands: 9223372036854775807\n", "plan.yaml:4: links.strands: invalid plan: want a whole number of strands from 0 to 10000, got 9223372036854775807"},
-		{"link growth NaN", "campus: [c]\nlinks:\n  - {to: A, growth: .nan}\n", "plan.yaml:3: links.growth: invalid plan: want a fraction from 0 to 10, got NaN"},
-		{"slack NaN", "campus: [c]\ndesign:\n  snap_m: 1\n  slack_m: .nan\n", "plan.yaml:4: design.slack_m: invalid plan: want metres from 0 to 1000, got NaN"},
-		{"slack infinite", "campus: [c]\ndesign: {slack_m: .inf}\n", "plan.yaml:2: design.slack_m: invalid plan: want metres from 0 to 1000, got +Inf"},
-		{"lateral infinite", "campus: [c]\ndesign: {max_lateral_m: .inf}\n", "plan.yaml:2: design.max_lateral_m: invalid plan: want metres above 0 and at most 1000, got +Inf"},
-		{"margin negative infinite", "campus: [c]\ndesign: {loss_margin_db: -.inf}\n", "plan.yaml:2: design.loss_margin_db: invalid plan: want dB from 0 to 50, got -Inf"},
-		{"innerduct NaN", "campus: [c]\ndesign: {innerduct_od_mm: .nan}\n", "plan.yaml:2: design.innerduct_od_mm: invalid plan: want millimetres from 0 to 1000, got NaN"},
+		{"strands overflow", "campus: [c]\ndefaults:\n  rate: 10G\n  strands: 9223372036854775807\n", "plan.yaml:4:12: defaults.strands: want a whole number of strands from 1 to 10000, got 9223372036854775807"},
+		{"link strands overflow", "campus: [c]\nlinks:\n  - to: A\n    strands: 9223372036854775807\n", "plan.yaml:4:14: links[0].strands: want a whole number of strands from 0 to 10000, got 9223372036854775807"},
+		{"link growth NaN", "campus: [c]\nlinks:\n  - {to: A, growth: .nan}\n", "plan.yaml:3:21: links[0].growth: want a fraction from 0 to 10, got NaN"},
+		{"slack NaN", "campus: [c]\ndesign:\n  snap_m: 1\n  slack_m: .nan\n", "plan.yaml:4:12: design.slack_m: want metres from 0 to 1000, got NaN"},
+		{"slack infinite", "campus: [c]\ndesign: {slack_m: .inf}\n", "plan.yaml:2:19: design.slack_m: want metres from 0 to 1000, got +Inf"},
+		{"lateral infinite", "campus: [c]\ndesign: {max_lateral_m: .inf}\n", "plan.yaml:2:25: design.max_lateral_m: want metres above 0 and at most 1000, got +Inf"},
+		{"margin negative infinite", "campus: [c]\ndesign: {loss_margin_db: -.inf}\n", "plan.yaml:2:26: design.loss_margin_db: want dB from 0 to 50, got -Inf"},
+		{"innerduct NaN", "campus: [c]\ndesign: {innerduct_od_mm: .nan}\n", "plan.yaml:2:27: design.innerduct_od_mm: want millimetres from 0 to 1000, got NaN"},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
@@ -141,9 +141,9 @@ func TestParsePlanDuplicateKeys(t *testing.T) {
 	t.Parallel()
 	cases := []struct{ name, yaml, want string }{
 		// YAML 1.2.2 §3.2.1.1: the keys of a mapping are unique.
-		{"hub twice", "campus: [c]\nhub: ADM\nname: x\nhub: LIB\n", "plan.yaml:4: hub: invalid plan: given twice, at line 2 and line 4; remove one"},
-		{"in design", "campus: [c]\ndesign:\n  slack_m: 5\n  slack_m: 6\n", "plan.yaml:4: design.slack_m: invalid plan: given twice, at line 3 and line 4; remove one"},
-		{"in a link", "campus: [c]\nlinks:\n  - to: A\n    strands: 12\n    to: B\n", "plan.yaml:5: links[0].to: invalid plan: given twice, at line 3 and line 5; remove one"},
+		{"hub twice", "campus: [c]\nhub: ADM\nname: x\nhub: LIB\n", "plan.yaml:4:1: hub: given twice, at line 2 and line 4; remove one"},
+		{"in design", "campus: [c]\ndesign:\n  slack_m: 5\n  slack_m: 6\n", "plan.yaml:4:3: design.slack_m: given twice, at line 3 and line 4; remove one"},
+		{"in a link", "campus: [c]\nlinks:\n  - to: A\n    strands: 12\n    to: B\n", "plan.yaml:5:5: links[0].to: given twice, at line 3 and line 5; remove one"},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {

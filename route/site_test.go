@@ -109,17 +109,18 @@ func TestLinksOverrides(t *testing.T) {
 func TestLinksErrors(t *testing.T) {
 	t.Parallel()
 	s := lineCampus(t, []string{"A", "C"}, []float64{0, 100}, map[string]string{"A": "mc"}, "")
-	p := PlanDefaults
-	p.File = "plan.yaml"
-	p.Links = []LinkSpec{{Line: 7, To: "X"}, {Line: 8, From: "Y", To: "C"}, {Line: 9, To: "A"}, {Line: 10, From: "C", To: "C"}}
-	_, errs := s.Links(&p, "A")
+	p, err := ParsePlan("plan.yaml", []byte("campus: [c]\nlinks:\n  - {to: X}\n  - {from: Y, to: C}\n  - {to: A}\n  - {from: C, to: C}\n"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, errs := s.Links(p, "A")
 	var msgs []string
 	for _, e := range errs {
 		msgs = append(msgs, e.Error())
 	}
 	all := strings.Join(msgs, "\n")
-	for _, want := range []string{`plan.yaml:7: links.to: invalid plan: unknown building "X"`, `plan.yaml:8: links.from: invalid plan: unknown building "Y"`,
-		`plan.yaml:9: links.to: invalid plan: "A" is the hub`, `plan.yaml:10: links.from: invalid plan: a link from "C" to itself`} {
+	for _, want := range []string{`plan.yaml:3:10: links[0].to: unknown building "X"`, `plan.yaml:4:12: links[1].from: unknown building "Y"`,
+		`plan.yaml:5:10: links[2].to: "A" is the hub`, `plan.yaml:6:12: links[3].from: a link from "C" to itself`} {
 		if !strings.Contains(all, want) {
 			t.Errorf("got %q, want it to contain %q", all, want)
 		}

@@ -118,11 +118,11 @@ func (s *Site) Hub(p *Plan) (string, error) {
 	if hub == "" {
 		hub = s.MainCrossConnect()
 		if hub == "" {
-			return "", &PlanError{File: p.File, Key: "hub", Err: fmt.Errorf("%w: no hub named and no building has role mc", ErrPlan)}
+			return "", p.Problem("hub", input.Errorf(input.ErrMissingKey, "missing; no building has role mc to be the hub"))
 		}
 	}
 	if _, ok := s.building[hub]; !ok {
-		return "", &PlanError{File: p.File, Key: "hub", Err: fmt.Errorf("%w: unknown building %q", ErrPlan, hub)}
+		return "", p.Problem("hub", input.Errorf(input.ErrBadValue, "want the id of a building, got %q, which no building has", hub))
 	}
 	return hub, nil
 }
@@ -141,7 +141,7 @@ func Engine(p *Plan) (*media.Engine, error) {
 		if err == nil {
 			err = parse(path, data)
 		} else {
-			err = &media.FileError{File: path, Err: fmt.Errorf("read: %w", input.Cause(err))}
+			err = &input.Problem{File: path, Err: fmt.Errorf("read: %w", input.Cause(err))}
 		}
 		if err != nil {
 			errs = append(errs, err)
@@ -157,7 +157,7 @@ func Engine(p *Plan) (*media.Engine, error) {
 		read(p.Prices, func(path string, data []byte) (err error) { prices, err = media.ParsePriceBook(path, data); return err })
 	}
 	if len(errs) > 0 {
-		return nil, &ErrorList{Errs: errs}
+		return nil, problems(errs)
 	}
 	return media.NewEngine(cat, rules, prices, EngineOptions(p))
 }
@@ -193,25 +193,16 @@ func SolveWith(ctx context.Context, s *Site, p *Plan, eng *media.Engine) (*Resul
 		return nil, err
 	}
 	cat := eng.Catalog()
-	for _, l := range links {
-		if _, err := cat.ParseRate(l.Rate); err != nil {
-			errs = append(errs, &PlanError{File: p.File, Line: l.Line, Key: "rate", Err: fmt.Errorf("%w: link %s: %v", ErrPlan, l.ID, err)})
-		}
-		if l.FutureRate != "" {
-			if _, err := cat.ParseRate(l.FutureRate); err != nil {
-				errs = append(errs, &PlanError{File: p.File, Line: l.Line, Key: "future_rate", Err: fmt.Errorf("%w: link %s: %v", ErrPlan, l.ID, err)})
-			}
-		}
-	}
+	errs = append(errs, p.checkRates(cat)...)
 	if un := s.unreachableServed(hub, links); len(un) > 0 {
-		errs = append(errs, &PlanError{File: p.File, Key: "hub", Err: fmt.Errorf("%w: %d buildings cannot reach the hub %q through the pathway network: %v", geo.ErrUnreachable, len(un), hub, un)})
+		errs = append(errs, p.Problem("hub", input.Errorf(geo.ErrUnreachable, "%d buildings cannot reach the hub %q through the pathway network: %q", len(un), hub, un)))
 	}
 	cm, err := newCostModel(eng, p.Design)
 	if err != nil {
 		errs = append(errs, err)
 	}
 	if len(errs) > 0 {
-		return nil, &ErrorList{Errs: errs}
+		return nil, problems(errs)
 	}
 	if err := ctx.Err(); err != nil {
 		return nil, err

@@ -9,9 +9,7 @@ import (
 
 	"github.com/urfave/cli/v2"
 
-	"spanwright/geo"
 	"spanwright/geo/input"
-	"spanwright/media"
 	"spanwright/route"
 )
 
@@ -35,12 +33,7 @@ func onUsageError(_ *cli.Context, err error, _ bool) error { return usageError{e
 // exitCode maps an error to the process exit status.
 func exitCode(err error) int {
 	var ue usageError
-	var fe *geo.FeatureError
-	var gl *geo.ErrorList
-	var pe *route.PlanError
-	var rl *route.ErrorList
-	var mf *media.FileError
-	var ml *media.ErrorList
+	var ip *input.Problem
 	var oe *route.OutputError
 	switch {
 	case err == nil:
@@ -54,8 +47,7 @@ func exitCode(err error) int {
 		// Before the input checks: an input that cannot be read for lack of permission or
 		// an I/O error is the machine's fault, whatever loader reports it.
 		return exitEnvironment
-	case errors.As(err, &ue), errors.As(err, &fe), errors.As(err, &gl), errors.As(err, &pe), errors.As(err, &rl),
-		errors.As(err, &mf), errors.As(err, &ml), errors.Is(err, media.ErrMissingPrice),
+	case errors.As(err, &ue), errors.As(err, &ip), // every input problem, of every file kind
 		errors.Is(err, errInvalid), errors.Is(err, fs.ErrNotExist),
 		strings.HasPrefix(err.Error(), "Required flag"), strings.HasPrefix(err.Error(), "flag provided but not defined"):
 		// urfave/cli reports missing required flags as plain errors; they are usage mistakes.

@@ -8,6 +8,8 @@ import (
 
 	"github.com/urfave/cli/v2"
 
+	"spanwright/geo"
+	"spanwright/geo/input"
 	"spanwright/route"
 	"spanwright/route/escape"
 )
@@ -38,11 +40,11 @@ func checkCommand() *cli.Command {
 func runCheck(ctx context.Context, args []string, maxBytes int64, opt route.WriteOptions, w io.Writer) error {
 	var site *route.Site
 	var err error
+	var p *route.Plan
 	hub := ""
 	if len(args) == 1 && (strings.HasSuffix(args[0], ".yaml") || strings.HasSuffix(args[0], ".yml")) {
-		p, perr := route.LoadPlanLimit(args[0], maxBytes)
-		if perr != nil {
-			return perr
+		if p, err = route.LoadPlanLimit(args[0], maxBytes); err != nil {
+			return err
 		}
 		site, err = route.LoadSite(ctx, nil, campusPaths(p), siteOptions(p))
 		hub = p.Hub
@@ -58,10 +60,15 @@ func runCheck(ctx context.Context, args []string, maxBytes int64, opt route.Writ
 		return err
 	}
 	if hub != "" && rep.Hub == "" {
-		return fmt.Errorf("%w: unknown hub %q", errInvalid, hub)
+		_, err := site.Hub(p) // the plan's problem, at the hub's line
+		return err
 	}
 	if len(rep.Unreachable) > 0 {
-		return fmt.Errorf("%w: %d buildings cannot reach the hub %s: %s", errInvalid, len(rep.Unreachable), escape.Terminal(rep.Hub), escape.TerminalList(rep.Unreachable))
+		err := input.Errorf(geo.ErrUnreachable, "%d buildings cannot reach the hub %s: %s", len(rep.Unreachable), escape.Terminal(rep.Hub), escape.TerminalList(rep.Unreachable))
+		if p != nil {
+			return p.Problem("hub", err)
+		}
+		return fmt.Errorf("%w: %w", errInvalid, err)
 	}
 	return nil
 }

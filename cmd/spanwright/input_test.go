@@ -60,22 +60,22 @@ func TestBadInputFiles(t *testing.T) {
 		{"over the cap", []string{"check", "--max-input-mb", "1", big}, []string{big + ": read: larger than the input limit of 1 MiB (raise it with --max-input-mb)"}},
 		{"cap not a size", []string{"check", "--max-input-mb", "0", big}, []string{"--max-input-mb: want MiB from 1 to 1048576, got 0"}},
 		// YAML 1.2.2 §3.2.1.1: the keys of a mapping are unique; yaml.v3 kept the last.
-		{"hub given twice", []string{"plan", "testdata/plans/dup_hub.yaml", "--out", out}, []string{"dup_hub.yaml:5: hub: invalid plan: given twice, at line 3 and line 5; remove one"}},
-		{"design key given twice", []string{"check", "testdata/plans/dup_design.yaml"}, []string{"dup_design.yaml:7: design.slack_m: invalid plan: given twice, at line 5 and line 7"}},
-		{"axis given twice", []string{"sweep", sweepDup, "--out", out, "--quiet"}, []string{"dup.sweep.yaml:4: vary.hub: given twice, at line 3 and line 4"}},
+		{"hub given twice", []string{"plan", "testdata/plans/dup_hub.yaml", "--out", out}, []string{"dup_hub.yaml:5:1: hub: given twice, at line 3 and line 5; remove one"}},
+		{"design key given twice", []string{"check", "testdata/plans/dup_design.yaml"}, []string{"dup_design.yaml:7:3: design.slack_m: given twice, at line 5 and line 7"}},
+		{"axis given twice", []string{"sweep", sweepDup, "--out", out, "--quiet"}, []string{"dup.sweep.yaml:4:3: vary.hub: given twice, at line 3 and line 4"}},
 		// RFC 8259 §4: names within an object SHOULD be unique; encoding/json keeps the last.
 		{"property given twice", []string{"check", "../../testdata/bad/duplicate_property.geojson"}, []string{`feature #0 "B-1": property "riser_m": given twice, at line 2 and line 3`}},
 		// IEEE 754: NaN fails every comparison, so "growth < 0" let it through.
-		{"growth NaN", []string{"plan", "testdata/plans/nan_growth.yaml", "--out", out}, []string{"nan_growth.yaml:5: defaults.growth: invalid plan: want a fraction from 0 to 10, got NaN"}},
-		{"growth huge", []string{"plan", "testdata/plans/huge_growth.yaml", "--out", out}, []string{"huge_growth.yaml:4: defaults.growth: invalid plan: want a fraction from 0 to 10, got 1e+308"}},
+		{"growth NaN", []string{"plan", "testdata/plans/nan_growth.yaml", "--out", out}, []string{"nan_growth.yaml:5:11: defaults.growth: want a fraction from 0 to 10, got NaN"}},
+		{"growth huge", []string{"plan", "testdata/plans/huge_growth.yaml", "--out", out}, []string{"huge_growth.yaml:4:20: defaults.growth: want a fraction from 0 to 10, got 1e+308"}},
 		// Go spec: int is 64 bits; strands times (1 + growth) overflowed.
-		{"strands overflow", []string{"plan", "testdata/plans/huge_strands.yaml", "--out", out}, []string{"huge_strands.yaml:5: defaults.strands: invalid plan: want a whole number of strands from 1 to 10000, got 9223372036854775807"}},
-		{"slack infinite", []string{"plan", "testdata/plans/inf_slack.yaml", "--out", out}, []string{"inf_slack.yaml:5: design.slack_m: invalid plan: want metres from 0 to 1000, got +Inf"}},
-		{"slack NaN", []string{"plan", "testdata/plans/nan_slack.yaml", "--out", out}, []string{"nan_slack.yaml:5: design.slack_m: invalid plan: want metres from 0 to 1000, got NaN"}},
-		{"lateral infinite", []string{"check", "testdata/plans/inf_lateral.yaml"}, []string{"inf_lateral.yaml:5: design.max_lateral_m: invalid plan: want metres above 0 and at most 1000, got +Inf"}},
-		{"sweep value NaN", []string{"sweep", sweepNaN, "--out", out, "--quiet"}, []string{"nan.sweep.yaml:3: vary: design.slack_m: want metres from 0 to 1000, got NaN"}},
+		{"strands overflow", []string{"plan", "testdata/plans/huge_strands.yaml", "--out", out}, []string{"huge_strands.yaml:5:12: defaults.strands: want a whole number of strands from 1 to 10000, got 9223372036854775807"}},
+		{"slack infinite", []string{"plan", "testdata/plans/inf_slack.yaml", "--out", out}, []string{"inf_slack.yaml:5:12: design.slack_m: want metres from 0 to 1000, got +Inf"}},
+		{"slack NaN", []string{"plan", "testdata/plans/nan_slack.yaml", "--out", out}, []string{"nan_slack.yaml:5:12: design.slack_m: want metres from 0 to 1000, got NaN"}},
+		{"lateral infinite", []string{"check", "testdata/plans/inf_lateral.yaml"}, []string{"inf_lateral.yaml:5:18: design.max_lateral_m: want metres above 0 and at most 1000, got +Inf"}},
+		{"sweep value NaN", []string{"sweep", sweepNaN, "--out", out, "--quiet"}, []string{"nan.sweep.yaml:3:23: vary: design.slack_m: want metres from 0 to 1000, got NaN"}},
 		// TIA-568.3-D: a splice loses 0.3 dB at most; 1e308 dB is a slip, not a design.
-		{"catalog loss huge", []string{"plan", "testdata/plans/ok.yaml", "--out", out, "--catalog", hugeCatalog}, []string{`huge-catalog.yaml:`, `field "connections.splice_db": bad value: want dB from 0 to 100, got 1e+308`}},
+		{"catalog loss huge", []string{"plan", "testdata/plans/ok.yaml", "--out", out, "--catalog", hugeCatalog}, []string{`huge-catalog.yaml:`, `huge-catalog.yaml:18:14: connections.splice_db: want dB from 0 to 100, got 1e+308`}},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {

@@ -140,10 +140,10 @@ func TestBadInput(t *testing.T) {
 		{"bad units", []string{"check", "--units", "cubits", "testdata/plans/ok.yaml"}, exitInvalid, []string{`--units: want metric or imperial, got "cubits"`}},
 		{"missing plan", []string{"plan", "testdata/plans/none.yaml", "--out", "x"}, exitInvalid, []string{"none.yaml"}},
 		{"not json", []string{"check", "../../testdata/bad/not_json.geojson"}, exitInvalid, []string{"not_json.geojson"}},
-		{"unknown hub", []string{"plan", "testdata/plans/unknown_hub.yaml", "--out", "x"}, exitInvalid, []string{`hub: invalid plan: unknown building "NOPE"`}},
+		{"unknown hub", []string{"plan", "testdata/plans/unknown_hub.yaml", "--out", "x"}, exitInvalid, []string{`unknown_hub.yaml:3:6: hub: want the id of a building, got "NOPE", which no building has`}},
 		{"unknown link buildings, all reported", []string{"plan", "testdata/plans/unknown_link.yaml", "--out", "x"}, exitInvalid,
-			[]string{`unknown_link.yaml:5: links.to: invalid plan: unknown building "GHOST"`, `unknown_link.yaml:6: links.from: invalid plan: unknown building "PHANTOM"`}},
-		{"unreachable building named", []string{"plan", "testdata/plans/island.yaml", "--out", "x"}, exitInvalid, []string{`cannot reach the hub "HQ"`, "[ISLE]"}},
+			[]string{`unknown_link.yaml:5:10: links[1].to: unknown building "GHOST"`, `unknown_link.yaml:6:12: links[2].from: unknown building "PHANTOM"`}},
+		{"unreachable building named", []string{"plan", "testdata/plans/island.yaml", "--out", "x"}, exitInvalid, []string{`island.yaml: hub: 1 buildings cannot reach the hub "HQ" through the pathway network: ["ISLE"]`}},
 		{"check names unreachable", []string{"check", "testdata/plans/island.yaml"}, exitInvalid, []string{"cannot reach the hub HQ: [ISLE]"}},
 	}
 	for _, tc := range cases {

@@ -10,6 +10,7 @@ import (
 	"syscall"
 	"testing"
 
+	"spanwright/geo/input"
 	"spanwright/route"
 )
 
@@ -135,7 +136,7 @@ func TestExitStatusEnvironment(t *testing.T) {
 	}
 	// An input the loader cannot open: missing is the user's mistake, unreadable the machine's.
 	for errno, want := range map[syscall.Errno]int{syscall.ENOENT: exitInvalid, syscall.EACCES: exitEnvironment, syscall.EIO: exitEnvironment} {
-		err := &route.PlanError{File: "p.yaml", Err: &fs.PathError{Op: "open", Path: "p.yaml", Err: errno}}
+		err := &input.Problem{File: "p.yaml", Err: &fs.PathError{Op: "open", Path: "p.yaml", Err: errno}, Class: route.ErrPlan}
 		if code := exitCode(err); code != want {
 			t.Errorf("plan file %v: status %d, want %d", errno, code, want)
 		}

@@ -19,7 +19,7 @@ func TestSweepCommand(t *testing.T) {
 	}
 	for _, want := range []string{
 		"sweep: 6 scenarios: 4 ok, 1 with infeasible legs, 1 failed\n",
-		`  failed bad-hub-0d4d7434: bad-hub-0d4d7434/plan.yaml: hub: invalid plan: unknown building "NOWHERE"`,
+		`  failed bad-hub-0d4d7434: bad-hub-0d4d7434/plan.yaml:8:6: hub: want the id of a building, got "NOWHERE", which no building has`,
 		filepath.Join(out, "compare.xlsx"),
 	} {
 		if !strings.Contains(stdout, want) {
@@ -85,7 +85,7 @@ func TestSweepExitStatus(t *testing.T) {
 	}{
 		{"all ok", []string{write("cases: [{name: base}]")}, exitOK, ""},
 		{"infeasible legs", []string{write("cases: [{name: d, defaults.redundancy: diverse}]")}, exitInfeasible, "1 of 1 scenarios have infeasible legs"},
-		{"invalid sweep file", []string{filepath.Join(sweepFixtures, "bad.yaml")}, exitInvalid, `bad.yaml:9: case "strands-text": defaults.strands: wrong type: want an integer, got "many"`},
+		{"invalid sweep file", []string{filepath.Join(sweepFixtures, "bad.yaml")}, exitInvalid, `bad.yaml:9:44: case "strands-text": defaults.strands: want an integer, got "many"`},
 		{"bad shard", []string{write("cases: [{name: base}]"), "--shard", "3/2"}, exitInvalid, "--shard"},
 		{"bad jobs", []string{write("cases: [{name: base}]"), "--jobs", "0"}, exitInvalid, "--jobs"},
 		{"no sweep file", nil, exitInvalid, "name exactly one sweep file"},

@@ -23,11 +23,13 @@ type Step struct {
 }
 
 // Duplicate is a key given twice in one object or mapping: the path to that object, the
-// key, and the lines (1-based) of its first and its second occurrence.
+// key, the lines (1-based) of its first and its second occurrence, and the column (1-based)
+// of the second.
 type Duplicate struct {
 	Path            []Step
 	Key             string
 	FirstLine, Line int
+	Col             int
 }
 
 // Where is the path to the key itself, dotted: "design.slack_m", "features[3].properties.riser_m".
@@ -82,7 +84,7 @@ func YAMLDuplicates(n *yaml.Node) []Duplicate {
 				k := n.Content[i]
 				if k.Kind == yaml.ScalarNode && k.Tag != "!!merge" && first != nil {
 					if line, dup := first[k.Value]; dup {
-						out = append(out, Duplicate{Path: append([]Step(nil), path...), Key: k.Value, FirstLine: line, Line: k.Line})
+						out = append(out, Duplicate{Path: append([]Step(nil), path...), Key: k.Value, FirstLine: line, Line: k.Line, Col: k.Column})
 					} else {
 						first[k.Value] = k.Line
 					}
@@ -301,7 +303,7 @@ func (s *jsonScan) check(depth int, name span) {
 
 func (s *jsonScan) dup(firstOff int, name span) {
 	s.dups = append(s.dups, Duplicate{Path: s.steps(), Key: s.text(name),
-		FirstLine: s.line(firstOff), Line: s.line(name.start)})
+		FirstLine: s.line(firstOff), Line: s.line(name.start), Col: s.col(name.start - 1)})
 }
 
 func (s *jsonScan) same(a, b span) bool {
@@ -337,3 +339,6 @@ func (s *jsonScan) steps() []Step {
 }
 
 func (s *jsonScan) line(off int) int { return 1 + bytes.Count(s.data[:off], []byte{'\n'}) }
+
+// col is the 1-based column of the byte at off, in bytes.
+func (s *jsonScan) col(off int) int { return off - bytes.LastIndexByte(s.data[:off], '\n') }

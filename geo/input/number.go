@@ -1,15 +1,14 @@
 package input
 
 import (
-	"errors"
 	"fmt"
 	"math"
 	"strconv"
 )
 
 // ErrOutOfRange is a number that is not finite, lies outside its key's range, or has a
-// fraction where a whole number is wanted.
-var ErrOutOfRange = errors.New("number out of range")
+// fraction where a whole number is wanted. It is an ErrBadValue too.
+var ErrOutOfRange = fmt.Errorf("number out of range: %w", ErrBadValue)
 
 // Range is what a numeric key of an input file may hold: a finite number from Min to Max
 // (Min itself excluded when AboveMin), a whole number when Whole. Unit names the quantity
@@ -21,8 +20,9 @@ type Range struct {
 	Unit     string
 }
 
-// Check returns nil when x is in r, and otherwise an error wrapping ErrOutOfRange that
-// says what was wanted and what was given ("want metres from 0 to 1000, got NaN").
+// Check returns nil when x is in r, and otherwise a *Problem naming no file, whose Err wraps
+// ErrOutOfRange and says what was wanted and whose Value is what was given; it prints "want
+// metres from 0 to 1000, got NaN", and Place puts it at its key.
 func (r Range) Check(x float64) error {
 	if r.holds(x) {
 		return nil
@@ -51,7 +51,7 @@ func (r Range) holds(x float64) bool {
 }
 
 func (r Range) fail(got string) error {
-	return &problem{ErrOutOfRange, fmt.Sprintf("want %s, got %s", r, got)}
+	return &Problem{Value: got, Err: &problem{ErrOutOfRange, "want " + r.String()}}
 }
 
 // String describes the range: "metres from 0 to 1000", "an integer above 0 and at most

@@ -23,8 +23,8 @@
 // sweep file's folder. In a case, name is the case's name, not the plan's.
 //
 // An unknown key or a value of the wrong type stops the sweep before it starts, with an
-// *Error naming the file, line, case ("vary" for an axis) and key; every problem is reported
-// at once. Values of the right type that the plan rejects (an unknown hub, a redundancy
+// *input.Problem (matching ErrInvalid) naming the file, line and column, case ("vary" for an
+// axis) and key; every problem is reported at once. Values of the right type that the plan rejects (an unknown hub, a redundancy
 // that does not exist) fail only their scenario.
 //
 // # Scenarios

@@ -65,132 +65,126 @@ func Load(path string) (*File, error) { return LoadLimit(path, 0) }
 func LoadLimit(path string, maxBytes int64) (*File, error) {
 	data, err := input.ReadFile(path, input.Cap(maxBytes, input.DefaultTextMiB))
 	if err != nil {
-		return nil, &Error{File: path, Err: fmt.Errorf("read: %w", input.Cause(err))}
+		return nil, &input.Problem{File: path, Err: fmt.Errorf("read: %w", input.Cause(err)), Class: ErrInvalid}
 	}
 	return parse(path, data, maxBytes)
 }
 
 // Parse reads a sweep file from data; name is its path, for messages and to resolve the
-// base plan and file-valued overrides. It returns every problem at once, as an *ErrorList
-// of *Error.
+// base plan and file-valued overrides. It returns every problem at once, as an
+// *input.Problems whose every problem is ErrInvalid, in line order.
 func Parse(name string, data []byte) (*File, error) { return parse(name, data, 0) }
+
+// sweepFile is the shape of a sweep file for input.Decoder; vary and cases are read by
+// parseVary and parseCases, since their keys are the plan's.
+type sweepFile struct {
+	At    input.Mapping
+	Base  yaml.Node `yaml:"base"`
+	Vary  yaml.Node `yaml:"vary"`
+	Cases yaml.Node `yaml:"cases"`
+}
 
 func parse(name string, data []byte, maxBytes int64) (*File, error) {
 	f := &File{Path: name, Dir: filepath.Dir(name), MaxInputBytes: maxBytes}
-	var errs ErrorList
-	bad := func(line int, where, key string, err error) {
-		errs.Errs = append(errs.Errs, &Error{File: name, Line: line, Case: where, Key: key, Err: err})
+	var errs input.Problems
+	dec := &input.Decoder{File: name, Problems: &errs, Class: ErrInvalid, RangeOf: route.SettingRange}
+	bad := func(n *yaml.Node, item, key string, err error) {
+		line, col := 0, 0
+		if n != nil {
+			line, col = n.Line, n.Column
+		}
+		dec.Fail(line, col, item, key, err)
 	}
-	var doc yaml.Node
-	if err := yaml.Unmarshal(data, &doc); err != nil {
-		bad(0, "", "", fmt.Errorf("not YAML: %v", strings.TrimPrefix(err.Error(), "yaml: ")))
-		return nil, &errs
+	var sf sweepFile
+	root := dec.Parse(data, &sf)
+	if root == nil || input.Resolve(root).Kind != yaml.MappingNode {
+		errs.Sort()
+		return nil, errs.Err()
 	}
-	if len(doc.Content) == 0 || doc.Content[0].Kind != yaml.MappingNode {
-		bad(0, "", "", fmt.Errorf("want a mapping with base, vary and cases"))
-		return nil, &errs
-	}
-	for _, d := range input.YAMLDuplicates(&doc) {
-		bad(d.Line, "", d.Where(), d.Err())
-	}
-	input.DropYAMLDuplicates(&doc) // reported: check the rest as if each key were given once
-	root := doc.Content[0]
-	for i := 0; i+1 < len(root.Content); i += 2 {
-		k, v := root.Content[i], root.Content[i+1]
-		switch k.Value {
-		case "base":
-			if v.Kind != yaml.ScalarNode || v.Tag != "!!str" || v.Value == "" {
-				bad(v.Line, "", "base", fmt.Errorf("%w: want the plan file's name, got %s", ErrWrongType, shown(v)))
-				continue
-			}
+	if sf.At.Has("base") {
+		if v := &sf.Base; v.Kind != yaml.ScalarNode || v.Tag != "!!str" || v.Value == "" {
+			bad(v, "", "base", input.Errorf(ErrWrongType, "want the plan file's name, got %s", input.KindName(v)))
+		} else {
 			f.Base = v.Value
 			if !filepath.IsAbs(f.Base) {
 				f.Base = filepath.Join(f.Dir, f.Base)
 			}
-		case "vary":
-			f.parseVary(v, bad)
-		case "cases":
-			f.parseCases(v, bad)
-		default:
-			bad(k.Line, "", k.Value, fmt.Errorf("%w; want base, vary or cases", ErrUnknownKey))
 		}
+	} else {
+		bad(nil, "", "base", input.Errorf(input.ErrMissingKey, "missing; name the plan file the scenarios start from"))
 	}
-	if f.Base == "" && !hasKey(root, "base") {
-		bad(0, "", "base", fmt.Errorf("missing: name the plan file the scenarios start from"))
+	if sf.At.Has("vary") {
+		f.parseVary(dec, &sf.Vary, bad)
 	}
-	if len(errs.Errs) == 0 && len(f.Axes) == 0 && len(f.Cases) == 0 {
-		bad(0, "", "", fmt.Errorf("nothing to sweep: give vary, cases or both"))
+	if sf.At.Has("cases") {
+		f.parseCases(dec, &sf.Cases, bad)
+	}
+	if errs.Len() == 0 && len(f.Axes) == 0 && len(f.Cases) == 0 {
+		bad(nil, "", "", input.Errorf(input.ErrMissingKey, "nothing to sweep: give vary, cases or both"))
 	}
 	if f.Base != "" {
 		if data, err := input.ReadFile(f.Base, input.Cap(maxBytes, input.DefaultTextMiB)); err != nil {
-			bad(lineOf(root, "base"), "", "base", err)
-		} else if doc, err := parsePlanYAML(data); err != nil {
-			bad(lineOf(root, "base"), "", "base", fmt.Errorf("%s: %w", f.Base, err))
-		} else {
+			bad(&sf.Base, "", "base", err)
+		} else if doc := parsePlanYAML(f.Base, data, &errs); doc != nil {
 			f.baseData, f.baseDoc = data, doc
 		}
 	}
-	if len(errs.Errs) == 0 {
+	if errs.Len() == 0 {
 		f.expand(bad)
 	}
+	errs.Sort()
 	if err := errs.Err(); err != nil {
 		return nil, err
 	}
 	return f, nil
 }
 
-func hasKey(m *yaml.Node, key string) bool { return lookup(m, key) != nil }
-
-func lineOf(m *yaml.Node, key string) int {
-	for i := 0; i+1 < len(m.Content); i += 2 {
-		if m.Content[i].Value == key {
-			return m.Content[i].Line
-		}
+// parsePlanYAML parses a plan file's YAML document, which must be a mapping with no key
+// given twice, and returns its root node; it adds its problems to errs, as problems of the
+// plan file, and returns nil, when it is not such a document. The plan itself is checked
+// per scenario.
+func parsePlanYAML(name string, data []byte, errs *input.Problems) *yaml.Node {
+	before := errs.Len()
+	var root yaml.Node
+	n := (&input.Decoder{File: name, Problems: errs, Class: ErrInvalid}).Parse(data, &root)
+	if n == nil || errs.Len() > before {
+		return nil
 	}
-	return 0
+	if root.Kind != yaml.MappingNode {
+		errs.Add(&input.Problem{File: name, Line: root.Line, Col: root.Column, Class: ErrInvalid,
+			Err: input.Errorf(ErrWrongType, "want a mapping of plan keys, got %s", input.KindName(&root))})
+		return nil
+	}
+	return &yaml.Node{Kind: yaml.DocumentNode, Content: []*yaml.Node{n}}
 }
 
-// parsePlanYAML parses a plan file's YAML document, which must be a mapping.
-func parsePlanYAML(data []byte) (*yaml.Node, error) {
-	var doc yaml.Node
-	if err := yaml.Unmarshal(data, &doc); err != nil {
-		return nil, fmt.Errorf("not YAML: %v", strings.TrimPrefix(err.Error(), "yaml: "))
-	}
-	if len(doc.Content) == 0 || doc.Content[0].Kind != yaml.MappingNode {
-		return nil, fmt.Errorf("want a mapping of plan keys")
-	}
-	var errs []error
-	for _, d := range input.YAMLDuplicates(&doc) {
-		errs = append(errs, fmt.Errorf("line %d: %s: %w", d.Line, d.Where(), d.Err()))
-	}
-	if err := errors.Join(errs...); err != nil {
-		return nil, err
-	}
-	return &doc, nil
-}
+type badFunc func(n *yaml.Node, item, key string, err error)
 
-type badFunc func(line int, where, key string, err error)
-
-func (f *File) parseVary(v *yaml.Node, bad badFunc) {
+func (f *File) parseVary(dec *input.Decoder, v *yaml.Node, bad badFunc) {
+	v = input.Resolve(v)
 	if v.Kind != yaml.MappingNode {
-		bad(v.Line, "vary", "", fmt.Errorf("%w: want a mapping of plan keys to lists of values", ErrWrongType))
+		bad(v, "vary", "", input.Errorf(ErrWrongType, "want a mapping of plan keys to lists of values, got %s", input.KindName(v)))
 		return
 	}
 	for i := 0; i+1 < len(v.Content); i += 2 {
-		k, vals := v.Content[i], v.Content[i+1]
+		k, vals := v.Content[i], input.Resolve(v.Content[i+1])
 		if _, err := parseOverride(k.Value, &yaml.Node{Kind: yaml.ScalarNode, Tag: "!!null"}); err != nil {
-			bad(k.Line, "vary", k.Value, err)
+			bad(k, "vary", k.Value, err)
 			continue
 		}
 		if vals.Kind != yaml.SequenceNode || len(vals.Content) == 0 {
-			bad(vals.Line, "vary", k.Value, fmt.Errorf("%w: want a non-empty list of values, got %s", ErrWrongType, shown(vals)))
+			got := input.KindName(vals)
+			if vals.Kind == yaml.SequenceNode {
+				got = "an empty list"
+			}
+			bad(vals, "vary", k.Value, input.Errorf(ErrWrongType, "want a non-empty list of values, got %s", got))
 			continue
 		}
 		ax := Axis{Key: k.Value, Line: k.Line}
 		for _, it := range vals.Content {
 			o, err := parseOverride(k.Value, it)
 			if err != nil {
-				bad(it.Line, "vary", k.Value, err)
+				bad(it, "vary", k.Value, err)
 				continue
 			}
 			ax.Values = append(ax.Values, o)
@@ -199,30 +193,31 @@ func (f *File) parseVary(v *yaml.Node, bad badFunc) {
 	}
 }
 
-func (f *File) parseCases(v *yaml.Node, bad badFunc) {
+func (f *File) parseCases(dec *input.Decoder, v *yaml.Node, bad badFunc) {
+	v = input.Resolve(v)
 	if v.Kind != yaml.SequenceNode {
-		bad(v.Line, "cases", "", fmt.Errorf("%w: want a list of cases, each a name and overrides", ErrWrongType))
+		bad(v, "cases", "", input.Errorf(ErrWrongType, "want a list of cases, each a name and overrides, got %s", input.KindName(v)))
 		return
 	}
 	names := map[string]int{}
 	for ci, it := range v.Content {
 		where := fmt.Sprintf("cases[%d]", ci)
-		if it.Kind != yaml.MappingNode {
-			bad(it.Line, where, "", fmt.Errorf("%w: want a mapping with a name and overrides, got %s", ErrWrongType, shown(it)))
+		if it = input.Resolve(it); it.Kind != yaml.MappingNode {
+			bad(it, where, "", input.Errorf(ErrWrongType, "want a mapping with a name and overrides, got %s", input.KindName(it)))
 			continue
 		}
 		c := Case{Line: it.Line}
 		if n := lookup(it, "name"); n == nil {
-			bad(it.Line, where, "name", fmt.Errorf("missing: every case needs a name"))
+			bad(it, where, "name", input.Errorf(input.ErrMissingKey, "missing; every case needs a name"))
 		} else if n.Kind != yaml.ScalarNode || n.Value == "" || n.Tag == "!!null" {
-			bad(n.Line, where, "name", fmt.Errorf("%w: want the case's name, got %s", ErrWrongType, shown(n)))
+			bad(n, where, "name", input.Errorf(ErrWrongType, "want the case's name, got %s", input.KindName(n)))
 		} else if first, dup := names[n.Value]; dup {
 			c.Name = n.Value
-			bad(n.Line, n.Value, "name", fmt.Errorf("%w: the case at line %d has the same name", ErrDuplicate, first))
+			bad(n, caseItem(n.Value), "name", input.Errorf(ErrDuplicate, "used twice: the case at line %d has the same name", first))
 		} else {
 			c.Name = n.Value
 			names[n.Value] = n.Line
-			where = c.Name
+			where = caseItem(c.Name)
 		}
 		for i := 0; i+1 < len(it.Content); i += 2 {
 			k, val := it.Content[i], it.Content[i+1]
@@ -231,11 +226,11 @@ func (f *File) parseCases(v *yaml.Node, bad badFunc) {
 			}
 			o, err := parseOverride(k.Value, val)
 			if err != nil {
-				line := val.Line
-				if errorsIsUnknown(err) {
-					line = k.Line
+				at := val
+				if errors.Is(err, ErrUnknownKey) {
+					at = k
 				}
-				bad(line, where, k.Value, err)
+				bad(at, where, k.Value, err)
 				continue
 			}
 			c.Set = append(c.Set, o)
@@ -252,7 +247,7 @@ func (f *File) expand(bad badFunc) {
 		for _, ax := range f.Axes {
 			n *= len(ax.Values)
 			if n > MaxScenarios {
-				bad(ax.Line, "vary", ax.Key, fmt.Errorf("the product has more than %d scenarios", MaxScenarios))
+				bad(&yaml.Node{Line: ax.Line}, "vary", ax.Key, input.Errorf(input.ErrBadValue, "the product has more than %d scenarios", MaxScenarios))
 				return
 			}
 		}
@@ -280,7 +275,7 @@ func (f *File) expand(bad badFunc) {
 		s.ID = ScenarioID(s.Case, s.Set)
 		if j, dup := seen[s.ID]; dup {
 			o := f.scenarios[j]
-			bad(s.line(f), s.where(), "", fmt.Errorf("%w: scenario id %q: scenario %d (%s) has the same overrides", ErrDuplicate, s.ID, j, o.Describe()))
+			bad(&yaml.Node{Line: s.line(f)}, s.where(), "", input.Errorf(ErrDuplicate, "scenario id %q used twice: scenario %d (%s) has the same overrides", s.ID, j, o.Describe()))
 			continue
 		}
 		seen[s.ID] = i
@@ -292,10 +287,13 @@ const MaxScenarios = 1_000_000
 
 func (s *Scenario) where() string {
 	if s.Case != "" {
-		return s.Case
+		return caseItem(s.Case)
 	}
 	return "vary"
 }
+
+// caseItem names a case in messages: case "fast".
+func caseItem(name string) string { return "case " + strconv.Quote(name) }
 
 func (s *Scenario) line(f *File) int {
 	if s.Case != "" {

@@ -151,25 +151,25 @@ func TestParseErrors(t *testing.T) {
 		text     string
 		sentinel error
 	}{
-		{"bad.yaml:5: vary: defaults.speed: unknown key; want one of budget,", ErrUnknownKey},
-		{`bad.yaml:6: vary: design.snap_m: wrong type: want a number, got "wide"`, ErrWrongType},
-		{`bad.yaml:7: vary: design.allow_new_trench: wrong type: want a non-empty list of values, got "yes"`, ErrWrongType},
-		{`bad.yaml:9: case "strands-text": defaults.strands: wrong type: want an integer, got "many"`, ErrWrongType},
-		{`bad.yaml:10: case "strands-text": name: used twice: the case at line 9 has the same name`, ErrDuplicate},
-		{"bad.yaml:11: cases[2]: name: missing: every case needs a name", nil},
-		{`bad.yaml:12: case "links": links: unknown key;`, ErrUnknownKey},
-		{`bad.yaml:13: case "budget-list": budget: wrong type: want an amount such as 1250000 or 99.95, got a list`, ErrWrongType},
+		{"bad.yaml:5:3: vary: defaults.speed: unknown key; want one of budget,", ErrUnknownKey},
+		{`bad.yaml:6:24: vary: design.snap_m: want a number, got "wide"`, ErrWrongType},
+		{`bad.yaml:7:28: vary: design.allow_new_trench: want a non-empty list of values, got "yes"`, ErrWrongType},
+		{`bad.yaml:9:44: case "strands-text": defaults.strands: want an integer, got "many"`, ErrWrongType},
+		{`bad.yaml:10:12: case "strands-text": name: used twice: the case at line 9 has the same name`, ErrDuplicate},
+		{"bad.yaml:11:5: cases[2]: name: missing; every case needs a name", nil},
+		{`bad.yaml:12:19: case "links": links: unknown key;`, ErrUnknownKey},
+		{`bad.yaml:13:33: case "budget-list": budget: want an amount such as 1250000 or 99.95, got a list`, ErrWrongType},
 	}
-	var list *ErrorList
-	if !errors.As(err, &list) || len(list.Errs) != len(want) {
+	var list *input.Problems
+	if !errors.As(err, &list) || len(list.List) != len(want) {
 		t.Fatalf("bad.yaml: got %v, want %d errors", err, len(want))
 	}
 	for i, w := range want {
-		got := list.Errs[i].Error()
+		got := list.List[i].Error()
 		if !strings.Contains(got, w.text) {
 			t.Errorf("error %d: got %q, want it to contain %q", i, got, w.text)
 		}
-		if w.sentinel != nil && !errors.Is(list.Errs[i], w.sentinel) {
+		if w.sentinel != nil && !errors.Is(list.List[i], w.sentinel) {
 			t.Errorf("error %d: %v does not match %v", i, got, w.sentinel)
 		}
 	}
@@ -177,25 +177,25 @@ func TestParseErrors(t *testing.T) {
 	inline := []struct{ name, src, want string }{
 		{"no base", "vary: {hub: [ADM]}", "base: missing"},
 		{"base missing", "base: nowhere.yaml\nvary: {hub: [ADM]}", "nowhere.yaml: no such file"},
-		{"base not a plan", "base: bad-base.yaml\nvary: {hub: [ADM]}", "bad-base.yaml: want a mapping of plan keys"},
+		{"base not a plan", "base: bad-base.yaml\nvary: {hub: [ADM]}", "bad-base.yaml:2:1: want a mapping of plan keys, got a list"},
 		{"nothing to sweep", "base: ../demo/plan.yaml", "nothing to sweep"},
 		{"empty sections", "base: ../demo/plan.yaml\nvary: {}\ncases: []", "nothing to sweep"},
-		{"unknown top key", "base: ../demo/plan.yaml\nvary: {hub: [ADM]}\nextra: 1", "x.yaml:3: extra: unknown key; want base, vary or cases"},
-		{"not a mapping", "[1, 2]", "want a mapping with base, vary and cases"},
+		{"unknown top key", "base: ../demo/plan.yaml\nvary: {hub: [ADM]}\nextra: 1", "x.yaml:3:1: extra: unknown key; want one of base, cases, vary"},
+		{"not a mapping", "[1, 2]", "x.yaml:1:1: want a mapping, got a list"},
 		{"not YAML", "base: [", "not YAML"},
-		{"empty axis", "base: ../demo/plan.yaml\nvary: {hub: []}", "hub: wrong type: want a non-empty list"},
-		{"same scenario twice", "base: ../demo/plan.yaml\nvary: {hub: [ADM, ADM]}", "used twice: scenario id"},
-		{"campus not a name", "base: ../demo/plan.yaml\ncases: [{name: c, campus: [1]}]", `case "c": campus: wrong type: want a file name or a list of file names`},
+		{"empty axis", "base: ../demo/plan.yaml\nvary: {hub: []}", "x.yaml:2:13: vary: hub: want a non-empty list of values, got an empty list"},
+		{"same scenario twice", "base: ../demo/plan.yaml\nvary: {hub: [ADM, ADM]}", `x.yaml:2: vary: scenario id "adm-4de93e1a" used twice: scenario 0 (hub=ADM) has the same overrides`},
+		{"campus not a name", "base: ../demo/plan.yaml\ncases: [{name: c, campus: [1]}]", `x.yaml:2:27: case "c": campus: want a file name or a list of file names, got a list`},
 		{"defaults alone", "base: ../demo/plan.yaml\ncases: [{name: c, defaults: {rate: 10G}}]", `case "c": defaults: unknown key`},
-		{"mapping for text", "base: ../demo/plan.yaml\nvary: {hub: [{a: 1}]}", "vary: hub: wrong type: want text, got a mapping"},
+		{"mapping for text", "base: ../demo/plan.yaml\nvary: {hub: [{a: 1}]}", "x.yaml:2:14: vary: hub: want a string, got a mapping"},
 		// YAML 1.2.2 §3.2.1.1: the keys of a mapping are unique; yaml.v3 keeps the last.
-		{"base twice", "base: ../demo/plan.yaml\nvary: {hub: [ADM]}\nbase: other.yaml", "x.yaml:3: base: given twice, at line 1 and line 3; remove one"},
-		{"axis twice", "base: ../demo/plan.yaml\nvary:\n  hub: [ADM]\n  hub: [LIB]", "x.yaml:4: vary.hub: given twice, at line 3 and line 4; remove one"},
-		{"case key twice", "base: ../demo/plan.yaml\ncases:\n  - name: c\n    hub: ADM\n    hub: LIB", "x.yaml:5: cases[0].hub: given twice, at line 4 and line 5; remove one"},
-		{"base plan key twice", "base: dup-base.yaml\nvary: {hub: [ADM]}", "dup-base.yaml: line 3: hub: given twice, at line 2 and line 3; remove one"},
+		{"base twice", "base: ../demo/plan.yaml\nvary: {hub: [ADM]}\nbase: other.yaml", "x.yaml:3:1: base: given twice, at line 1 and line 3; remove one"},
+		{"axis twice", "base: ../demo/plan.yaml\nvary:\n  hub: [ADM]\n  hub: [LIB]", "x.yaml:4:3: vary.hub: given twice, at line 3 and line 4; remove one"},
+		{"case key twice", "base: ../demo/plan.yaml\ncases:\n  - name: c\n    hub: ADM\n    hub: LIB", "x.yaml:5:5: cases[0].hub: given twice, at line 4 and line 5; remove one"},
+		{"base plan key twice", "base: dup-base.yaml\nvary: {hub: [ADM]}", "dup-base.yaml:3:1: hub: given twice, at line 2 and line 3; remove one"},
 		// IEEE 754: NaN fails every comparison; each value is checked against the plan's range.
-		{"NaN value", "base: ../demo/plan.yaml\nvary: {design.slack_m: [1, .nan]}", "x.yaml:2: vary: design.slack_m: want metres from 0 to 1000, got NaN"},
-		{"infinite value", "base: ../demo/plan.yaml\ncases: [{name: c, design.max_lateral_m: .inf}]", `x.yaml:2: case "c": design.max_lateral_m: want metres above 0 and at most 1000, got +Inf`},
+		{"NaN value", "base: ../demo/plan.yaml\nvary: {design.slack_m: [1, .nan]}", "x.yaml:2:28: vary: design.slack_m: want metres from 0 to 1000, got NaN"},
+		{"infinite value", "base: ../demo/plan.yaml\ncases: [{name: c, design.max_lateral_m: .inf}]", `x.yaml:2:41: case "c": design.max_lateral_m: want metres above 0 and at most 1000, got +Inf`},
 		{"strands overflow", "base: ../demo/plan.yaml\nvary: {defaults.strands: [9223372036854775807]}", "defaults.strands: want a whole number of strands from 1 to 10000, got 9223372036854775807"},
 		// Linux null(4): /dev/zero never ends.
 		{"base a device", "base: /dev/zero\nvary: {hub: [ADM]}", "base: read /dev/zero: not a regular file but a character device"},

@@ -3,7 +3,6 @@ package sweep
 import (
 	"bytes"
 	"encoding/json"
-	"errors"
 	"fmt"
 	"path/filepath"
 	"reflect"
@@ -13,6 +12,7 @@ import (
 
 	"go.yaml.in/yaml/v3"
 
+	"spanwright/geo/input"
 	"spanwright/route"
 )
 
@@ -99,7 +99,7 @@ func parseOverride(key string, v *yaml.Node) (Override, error) {
 		if key == "links" || strings.HasPrefix(key, "links.") {
 			hint = "; the links list cannot be varied: write another plan and use it as base"
 		}
-		return Override{}, fmt.Errorf("%w; want one of %s%s", ErrUnknownKey, keyList(), hint)
+		return Override{}, input.Errorf(ErrUnknownKey, "unknown key; want one of %s%s", keyList(), hint)
 	}
 	o := Override{Key: key, Line: v.Line, node: v, set: st}
 	if v.Kind == yaml.AliasNode {
@@ -124,24 +124,13 @@ func parseOverride(key string, v *yaml.Node) (Override, error) {
 		}
 		return o, nil
 	}
-	if v.Kind != yaml.ScalarNode {
-		return Override{}, fmt.Errorf("%w: want %s, got a %s", ErrWrongType, describe(st.typ), kindName(v))
-	}
+	// The value as the plan would read it: its type and range (SettingRange) checked by the
+	// same walker, with the same messages.
 	ptr := reflect.New(st.typ)
-	if err := v.Decode(ptr.Interface()); err != nil {
-		return Override{}, fmt.Errorf("%w: want %s, got %q", ErrWrongType, describe(st.typ), v.Value)
-	}
-	if r, ok := route.SettingRange(key); ok {
-		var err error
-		switch x := ptr.Elem(); x.Kind() {
-		case reflect.Int, reflect.Int64:
-			err = r.CheckInt(x.Int())
-		case reflect.Float64:
-			err = r.Check(x.Float())
-		}
-		if err != nil {
-			return Override{}, err
-		}
+	var probs input.Problems
+	(&input.Decoder{Problems: &probs, RangeOf: route.SettingRange}).DecodeAt(v, ptr.Interface(), "", key)
+	if len(probs.List) > 0 {
+		return Override{}, &input.Problem{Value: probs.List[0].Value, Err: probs.List[0].Err}
 	}
 	o.Value = v.Value
 	if st.typ.Kind() == reflect.Bool {
@@ -158,7 +147,7 @@ func pathValue(key string, v *yaml.Node, typ reflect.Type) ([]string, error) {
 	if list {
 		want = "a file name or a list of file names"
 	}
-	bad := func() error { return fmt.Errorf("%w: want %s, got %s", ErrWrongType, want, shown(v)) }
+	bad := func() error { return input.Errorf(ErrWrongType, "want %s, got %s", want, input.KindName(v)) }
 	switch {
 	case v.Kind == yaml.ScalarNode && v.Tag == "!!str" && v.Value != "":
 		return []string{v.Value}, nil
@@ -173,41 +162,6 @@ func pathValue(key string, v *yaml.Node, typ reflect.Type) ([]string, error) {
 		return out, nil
 	}
 	return nil, bad()
-}
-
-func shown(v *yaml.Node) string {
-	if v.Kind == yaml.ScalarNode {
-		return fmt.Sprintf("%q", v.Value)
-	}
-	return "a " + kindName(v)
-}
-
-func kindName(v *yaml.Node) string {
-	switch v.Kind {
-	case yaml.SequenceNode:
-		return "list"
-	case yaml.MappingNode:
-		return "mapping"
-	}
-	return "value"
-}
-
-// describe names what a setting of type t holds, for messages.
-func describe(t reflect.Type) string {
-	if t == reflect.TypeOf(route.Money(0)) {
-		return "an amount such as 1250000 or 99.95"
-	}
-	switch t.Kind() {
-	case reflect.Bool:
-		return "true or false"
-	case reflect.Int, reflect.Int64, reflect.Int32:
-		return "an integer"
-	case reflect.Float64, reflect.Float32:
-		return "a number"
-	case reflect.String:
-		return "text"
-	}
-	return t.String()
 }
 
 func mustJSON(v any) string {
@@ -359,5 +313,3 @@ func deleteKey(m *yaml.Node, key string) {
 		}
 	}
 }
-
-func errorsIsUnknown(err error) bool { return errors.Is(err, ErrUnknownKey) }

@@ -187,7 +187,7 @@ func TestFailureRowAndOutcome(t *testing.T) {
 		t.Fatalf("got %d failures, want 1", len(rep.Failures))
 	}
 	fr := rep.Failures[0]
-	wantErr := fr.ID + `/plan.yaml: hub: invalid plan: unknown building "NOWHERE"`
+	wantErr := fr.ID + `/plan.yaml:8:6: hub: want the id of a building, got "NOWHERE", which no building has`
 	if fr.Case != "bad-hub" || fr.Status != StatusFailed || fr.Error != wantErr {
 		t.Errorf("failed row: got %+v, want case bad-hub with error %q", fr, wantErr)
 	}

@@ -1,0 +1,218 @@
+package input
+
+import (
+	"errors"
+	"fmt"
+	"slices"
+	"strings"
+)
+
+// Sentinels of the problems every input format shares, for errors.Is. The packages that read
+// a format re-export those they document (media.ErrUnknownField is ErrUnknownKey).
+var (
+	// ErrNotYAML is a YAML file that does not parse, or holds no document.
+	ErrNotYAML = errors.New("not YAML")
+	// ErrUnknownKey is a key the file kind does not have.
+	ErrUnknownKey = errors.New("unknown key")
+	// ErrMissingKey is a key the file kind needs and the file leaves out.
+	ErrMissingKey = errors.New("missing key")
+	// ErrWrongType is a value of the wrong kind: a list where a number is wanted.
+	ErrWrongType = errors.New("wrong type")
+	// ErrBadValue is a value of the right kind that is not allowed.
+	ErrBadValue = errors.New("bad value")
+)
+
+// Errorf returns an error whose text is the formatted message alone and which unwraps to
+// kind, so that messages read naturally and callers still test with errors.Is(err, kind).
+func Errorf(kind error, format string, args ...any) error {
+	return &problem{kind, fmt.Sprintf(format, args...)}
+}
+
+// Feature names one feature of a GeoJSON FeatureCollection: its 0-based position in the
+// file's features and its id ("" when it has none).
+type Feature struct {
+	Index int
+	ID    string
+}
+
+// Problem is one problem with an input file, at a place in it. It prints
+//
+//	file:line:col: feature #3 "P-1": property "duct_mm": want …, got …
+//	file:line:col: medium "om4": range_m: want …, got …
+//
+// leaving out what is unknown: the line and column (1-based, 0 when unknown), the feature
+// (nil for a problem of a YAML file or of a whole GeoJSON file), the item and the key.
+type Problem struct {
+	File      string
+	Line, Col int
+	Feature   *Feature
+	// Item is the entry of a YAML file concerned, as the message shows it: `medium "om4"`,
+	// `rule "reach"`, `case "fast"`; "" for none.
+	Item string
+	// Key is the key path in the file or item ("design.slack_m", "media[0].range_m"), or a
+	// feature's property ("riser_m", printed `property "riser_m"`; "geometry" for its
+	// geometry); "" when the problem is not about one key.
+	Key string
+	// Value is the value given, as text, when the problem is about one value (a number
+	// out of range); it is printed after Err as ", got Value". "" when Err says it.
+	Value string
+	// Err says what was expected; it wraps one of the sentinels, for errors.Is.
+	Err error
+	// Class, when set, is matched by errors.Is without being printed: the kind of file
+	// (route.ErrPlan, sweep.ErrInvalid) whose every problem it is.
+	Class error
+}
+
+func (p *Problem) Error() string {
+	var b strings.Builder
+	sep := func() {
+		if b.Len() > 0 {
+			b.WriteString(": ")
+		}
+	}
+	b.WriteString(p.File)
+	if p.Line > 0 {
+		fmt.Fprintf(&b, ":%d", p.Line)
+		if p.Col > 0 {
+			fmt.Fprintf(&b, ":%d", p.Col)
+		}
+	}
+	if f := p.Feature; f != nil {
+		sep()
+		if f.ID != "" {
+			fmt.Fprintf(&b, "feature #%d %q", f.Index, f.ID)
+		} else {
+			fmt.Fprintf(&b, "feature #%d (no id)", f.Index)
+		}
+	}
+	if p.Item != "" {
+		sep()
+		b.WriteString(p.Item)
+	}
+	if p.Key != "" {
+		sep()
+		if p.Feature != nil && p.Key != "geometry" {
+			fmt.Fprintf(&b, "property %q", p.Key)
+		} else {
+			b.WriteString(p.Key)
+		}
+	}
+	sep()
+	if p.Err != nil {
+		b.WriteString(p.Err.Error())
+	}
+	if p.Value != "" {
+		b.WriteString(", got ")
+		b.WriteString(p.Value)
+	}
+	return b.String()
+}
+
+// Unwrap returns Err.
+func (p *Problem) Unwrap() error { return p.Err }
+
+// Is reports whether target is the problem's Class.
+func (p *Problem) Is(target error) bool { return p.Class != nil && target == p.Class }
+
+// Place returns err as a problem at the place at gives (its File, Line, Col, Feature, Item,
+// Key and Class). When err is a *Problem that names no file (a Range's), its Err and Value
+// are taken over, so the value stays a field; any other error becomes Err.
+func Place(at Problem, err error) *Problem {
+	if p, ok := err.(*Problem); ok && p.File == "" && p.Line == 0 && p.Feature == nil && p.Item == "" && p.Key == "" {
+		at.Err, at.Value = p.Err, p.Value
+		return &at
+	}
+	at.Err = err
+	return &at
+}
+
+// MaxProblems caps how many problems one Problems keeps; the rest are counted.
+const MaxProblems = 100
+
+// Problems is every problem found in the input of one run, reported at once: one per line,
+// then how many more there were beyond MaxProblems.
+type Problems struct {
+	List    []*Problem
+	Dropped int // problems beyond MaxProblems
+}
+
+// Add appends err: a *Problem as it is, the problems of a *Problems one by one, and any
+// other error as the Err of a Problem that names no file. It counts in Dropped what is
+// beyond MaxProblems; a nil err adds nothing.
+func (l *Problems) Add(err error) {
+	var p *Problem
+	var ps *Problems
+	switch {
+	case err == nil:
+		return
+	case errors.As(err, &ps) && error(ps) == err:
+		for _, q := range ps.List {
+			l.Add(q)
+		}
+		l.Dropped += ps.Dropped
+		return
+	case errors.As(err, &p) && error(p) == err:
+	default:
+		p = &Problem{Err: err}
+	}
+	if len(l.List) >= MaxProblems {
+		l.Dropped++
+		return
+	}
+	l.List = append(l.List, p)
+}
+
+// Len is the number of problems found, kept or dropped.
+func (l *Problems) Len() int { return len(l.List) + l.Dropped }
+
+// Err returns l when it holds a problem and nil otherwise.
+func (l *Problems) Err() error {
+	if l.Len() == 0 {
+		return nil
+	}
+	return l
+}
+
+// Sort orders the problems of each file by line and column, files in the order of their
+// first problem; problems at the same place keep the order they were found in.
+func (l *Problems) Sort() {
+	first := map[string]int{}
+	for i, p := range l.List {
+		if _, ok := first[p.File]; !ok {
+			first[p.File] = i
+		}
+	}
+	slices.SortStableFunc(l.List, func(a, b *Problem) int {
+		if a.File != b.File {
+			return first[a.File] - first[b.File]
+		}
+		if a.Line != b.Line {
+			return a.Line - b.Line
+		}
+		return a.Col - b.Col
+	})
+}
+
+// Error prints every kept problem on its own line, then how many were dropped.
+func (l *Problems) Error() string {
+	var b strings.Builder
+	for i, p := range l.List {
+		if i > 0 {
+			b.WriteByte('\n')
+		}
+		b.WriteString(p.Error())
+	}
+	if l.Dropped > 0 {
+		fmt.Fprintf(&b, "\n(and %d more errors)", l.Dropped)
+	}
+	return b.String()
+}
+
+// Unwrap lets errors.Is and errors.As look at every kept problem.
+func (l *Problems) Unwrap() []error {
+	errs := make([]error, len(l.List))
+	for i, p := range l.List {
+		errs[i] = p
+	}
+	return errs
+}

@@ -1,0 +1,95 @@
+package input
+
+import (
+	"testing"
+)
+
+type walkedLink struct {
+	To      string   `yaml:"to"`
+	Strands int      `yaml:"strands"`
+	Growth  *float64 `yaml:"growth"`
+	Skip    bool     `yaml:"skip"`
+}
+
+type walkedFile struct {
+	At    Mapping
+	Name  string       `yaml:"name"`
+	Links []walkedLink `yaml:"links"`
+	Loss  float64      `yaml:"loss_db" range:"db"`
+}
+
+// TestDecoder: one case per behaviour of the walker, each with every message it gives.
+func TestDecoder(t *testing.T) {
+	t.Parallel()
+	ranges := map[string]Range{"db": {Min: 0, Max: 50, Unit: "dB"}}
+	strands := Range{Min: 0, Max: 100, Whole: true, Unit: "strands"}
+	rangeOf := func(path string) (Range, bool) { return strands, path == "links.strands" }
+	cases := []struct {
+		name, yaml string
+		want       string // every problem, one per line
+		check      func(t *testing.T, f walkedFile, where map[string]Pos)
+	}{
+		{"unknown key, wrong type, out of range: all at once", "name: x\nlinks:\n  - {to: A, strands: 101, speed: 1}\nloss_db: lots\n",
+			"f.yaml:3:22: links[0].strands: want a whole number of strands from 0 to 100, got 101\n" +
+				"f.yaml:3:27: links[0].speed: unknown key; want one of growth, skip, strands, to\n" +
+				`f.yaml:4:10: loss_db: want a number, got "lots"`, nil},
+		// YAML 1.2.2 §10.2.1.4: .nan is a float; the tag's range refuses it.
+		{"tag range", "loss_db: .nan\n", "f.yaml:1:10: loss_db: want dB from 0 to 50, got NaN", nil},
+		// YAML 1.2.2 §3.2.1.1: keys are unique; the first value is read.
+		{"key twice", "name: a\nname: b\n", "f.yaml:2:1: name: given twice, at line 1 and line 2; remove one",
+			func(t *testing.T, f walkedFile, _ map[string]Pos) {
+				if f.Name != "a" {
+					t.Errorf("name: got %q, want the first value a", f.Name)
+				}
+			}},
+		// https://yaml.org/type/merge.html: a key given in the mapping wins over a merged one.
+		{"merge key", "base: &b {to: A, strands: 6}\nlinks:\n  - <<: *b\n    strands: 12\n", "f.yaml:1:1: base: unknown key; want one of links, loss_db, name",
+			func(t *testing.T, f walkedFile, _ map[string]Pos) {
+				if len(f.Links) != 1 || f.Links[0].To != "A" || f.Links[0].Strands != 12 {
+					t.Errorf("links: got %+v, want to A with 12 strands", f.Links)
+				}
+			}},
+		// https://yaml.org/type/bool.html: YAML 1.1's yes and no, which yaml.v3 reads into a bool.
+		{"yes for true", "links:\n  - {to: A, skip: yes}\n  - {to: B, skip: maybe}\n", `f.yaml:3:19: links[1].skip: want true or false, got "maybe"`,
+			func(t *testing.T, f walkedFile, _ map[string]Pos) {
+				if !f.Links[0].Skip {
+					t.Error("skip: yes read as false")
+				}
+			}},
+		{"positions", "name: x\nlinks:\n  - to: A\n    growth: 0.5\n", "",
+			func(t *testing.T, f walkedFile, where map[string]Pos) {
+				if where["links[0]"] != (Pos{3, 5}) || where["links[0].growth"] != (Pos{4, 13}) || where["name"] != (Pos{1, 7}) {
+					t.Errorf("where: got %v", where)
+				}
+				if l, c := f.At.At("links"); l != 2 || c != 1 || !f.At.Has("name") || f.At.Has("loss_db") {
+					t.Errorf("mapping: got %+v", f.At)
+				}
+				if f.Links[0].Growth == nil || *f.Links[0].Growth != 0.5 {
+					t.Errorf("growth: got %v", f.Links[0].Growth)
+				}
+			}},
+		{"not YAML", "name: [", "f.yaml:1: not YAML: did not find expected node content", nil},
+		{"empty", "", "f.yaml: not YAML: empty file", nil},
+		{"not a mapping", "[1]", "f.yaml:1:1: want a mapping, got a list", nil},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			var errs Problems
+			where := map[string]Pos{}
+			d := &Decoder{File: "f.yaml", Problems: &errs, Ranges: ranges, RangeOf: rangeOf, Where: where}
+			var f walkedFile
+			d.Parse([]byte(tc.yaml), &f)
+			got := ""
+			if errs.Len() > 0 {
+				errs.Sort()
+				got = errs.Error()
+			}
+			if got != tc.want {
+				t.Errorf("got\n%s\nwant\n%s", got, tc.want)
+			}
+			if tc.check != nil {
+				tc.check(t, f, where)
+			}
+		})
+	}
+}
