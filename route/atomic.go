@@ -275,6 +275,17 @@ func newGuard(protect []string) guard {
 	return g
 }
 
+// CheckOverwrite refuses, wrapping ErrOverwrite, when writing files into dir would replace
+// one of the files in protect, as WriteFiles and CommitFiles would refuse when they came to
+// write them: a caller that works long before it writes (a sweep) asks first.
+func CheckOverwrite(dir string, files []OutputFile, protect []string) error {
+	real, _, err := resolveOut(dir)
+	if err != nil {
+		real = dir
+	}
+	return newGuard(protect).check(real, files)
+}
+
 // check refuses, wrapping ErrOverwrite, when an output in dir is one of the guarded files.
 func (g guard) check(dir string, files []OutputFile) error {
 	for _, f := range files {

@@ -145,3 +145,26 @@ func TestExitStatusEnvironment(t *testing.T) {
 		t.Errorf("an unclassified error: status %d, want %d", code, exitInternal)
 	}
 }
+
+// TestSweepRefusesBeforePlanning: a sweep whose comparison would replace its own sweep file is
+// refused with status 2 before any scenario is planned: nothing is written into the folder.
+func TestSweepRefusesBeforePlanning(t *testing.T) {
+	_, plan := inputFolder(t, "campus.geojson")
+	dir := t.TempDir()
+	sweepFile := filepath.Join(dir, "compare.md")
+	body := fmt.Sprintf("base: %s\ncases: [{name: a}, {name: b}]\n", plan)
+	if err := os.WriteFile(sweepFile, []byte(body), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	_, msg, code := run(t, "sweep", sweepFile, "--quiet", "--out", dir)
+	if code != exitInvalid || !strings.Contains(msg, "would overwrite an input") {
+		t.Fatalf("exit %d: %s; want 2 and the overwrite refused", code, msg)
+	}
+	ents, _ := os.ReadDir(dir)
+	if len(ents) != 1 {
+		t.Errorf("the folder holds %d entries, want only the sweep file", len(ents))
+	}
+	if got, _ := os.ReadFile(sweepFile); string(got) != body {
+		t.Errorf("the sweep file changed")
+	}
+}

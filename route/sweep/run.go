@@ -151,6 +151,14 @@ func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
 	if err := r.clean(mine); err != nil {
 		return nil, err
 	}
+	h := rowsHeader{Format: RowsFormat, Sweep: sweepHash(f), Scenarios: len(f.Scenarios()), Keys: f.Keys(), Shard: opt.Shard.String()}
+	// Refuse before planning anything when the comparison would replace the sweep file or
+	// the base plan (the files the scenarios read are checked again when it is written).
+	if names, err := renderRun(h, nil, opt.Shard, opt.Compare); err == nil {
+		if err := route.CheckOverwrite(opt.Out, names, r.protect); err != nil {
+			return nil, err
+		}
+	}
 	rows, err := r.runAll(ctx, mine)
 	r.emptyTrash()
 	rep := &Report{Scenarios: len(f.Scenarios()), Run: len(mine)}
@@ -164,7 +172,6 @@ func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
 	if err != nil {
 		return rep, err
 	}
-	h := rowsHeader{Format: RowsFormat, Sweep: sweepHash(f), Scenarios: len(f.Scenarios()), Keys: f.Keys(), Shard: opt.Shard.String()}
 	files, err := renderRun(h, rows, opt.Shard, opt.Compare)
 	if err != nil {
 		return rep, err
