@@ -4,8 +4,10 @@ import (
 	"cmp"
 	"fmt"
 	"math"
+	"regexp"
 	"slices"
 	"sort"
+	"strconv"
 	"strings"
 
 	"spanwright/geo"
@@ -117,6 +119,33 @@ func (m *costModel) allowed(medium string, rate, future float64, strands int, c 
 	v := m.eng.MaxChannelM(medium, rate, future, l) > 0
 	m.allowedMemo[k] = v
 	return v
+}
+
+var (
+	optionRef   = regexp.MustCompile(`option \d+ \("([^"]*)"\)`)
+	flaggedEdge = regexp.MustCompile(`the edges this option may use \(it excludes edges flagged (0x[0-9a-f]+)\)`)
+)
+
+// explain puts the optimizer's account of an unroutable demand in the plan's words: options
+// by their medium, edge flags as the span classes the rules keep the medium off.
+func (m *costModel) explain(reason string) string {
+	reason = optionRef.ReplaceAllString(reason, "$1")
+	return flaggedEdge.ReplaceAllStringFunc(reason, func(s string) string {
+		bits, err := strconv.ParseUint(flaggedEdge.FindStringSubmatch(s)[1], 0, 64)
+		if err != nil {
+			return s
+		}
+		var off []string
+		if bits&flagDuct != 0 {
+			off = append(off, "ducts (the cable does not fit the innerduct)")
+		}
+		for _, c := range m.classes {
+			if bits&m.classBit[c] != 0 {
+				off = append(off, c.String())
+			}
+		}
+		return "the spans its rules allow (it may not run on: " + strings.Join(off, "; ") + ")"
+	})
 }
 
 // whyNot is the rule engine's reason for keeping medium off spans of class c.

@@ -140,9 +140,9 @@ func (sv *solver) reason(d int) string {
 		lt := sv.lenTree(t, excl)
 		switch {
 		case comp[s] != comp[t] && excl != 0:
-			msgs = append(msgs, fmt.Sprintf("%s: no pathway joins node %d to node %d avoiding flags %#x", name, dm.Source, dm.Target, excl))
+			msgs = append(msgs, fmt.Sprintf("%s: no pathway joins its two ends on the edges this option may use (it excludes edges flagged %#x)", name, excl))
 		case comp[s] != comp[t]:
-			msgs = append(msgs, fmt.Sprintf("%s: no pathway joins node %d to node %d", name, dm.Source, dm.Target))
+			msgs = append(msgs, fmt.Sprintf("%s: no pathway joins its two ends", name))
 		case lt.dist[s] > sv.reach[d][o]:
 			msgs = append(msgs, fmt.Sprintf("%s: shortest route %.3f m exceeds reach %.3f m", name, float64(lt.dist[s])/mmPerM, op.MaxRouteM))
 		default:

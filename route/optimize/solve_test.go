@@ -68,8 +68,8 @@ func TestInfeasibleDemands(t *testing.T) {
 	verify(t, "infeasible", p, sol)
 	want := map[string]string{
 		"too far":    `option 0 ("om4"): shortest route 600.000 m exceeds reach 400.000 m`,
-		"island":     `option 0 ("om4"): no pathway joins node 3 to node 0`,
-		"emi":        `option 0 ("cat6a"): no pathway joins node 2 to node 1 avoiding flags 0x1`,
+		"island":     `option 0 ("om4"): no pathway joins its two ends`,
+		"emi":        `option 0 ("cat6a"): no pathway joins its two ends on the edges this option may use (it excludes edges flagged 0x1)`,
 		"bad node":   `source: want node index in [0, 5), got 9`,
 		"no options": `no candidate medium`,
 	}
