@@ -288,16 +288,10 @@ func (s *Site) fillLeg(cm *costModel, prob *optimize.Problem, leg *Leg, ol optim
 	plenum := false
 	types := map[string]bool{}
 	seen := map[string]bool{}
-	var labour int64
-	ductM := 0.0
 	for _, h := range ol.Hops {
 		sp := &s.Net.Spans[h.Edge]
 		leg.Steps = append(leg.Steps, geo.Step{SpanID: sp.ID, Reverse: !h.Forward})
 		leg.RouteM += sp.LengthM
-		labour += media.MulCents(cm.labourPerM[sp.Type], sp.LengthM)
-		if sp.Type == geo.TypeDuct {
-			ductM += sp.LengthM
-		}
 		if !seen[sp.PathwayID] {
 			seen[sp.PathwayID] = true
 			leg.Pathways = append(leg.Pathways, sp.PathwayID)
@@ -311,7 +305,6 @@ func (s *Site) fillLeg(cm *costModel, prob *optimize.Problem, leg *Leg, ol optim
 			emi = sp.EMI
 		}
 	}
-	labour += media.MulCents(cm.labourPerM[geo.TypeTray], leg.RiserM) + media.MulCents(cm.labourPerM[geo.TypeBuried], leg.LateralM)
 	facts := info.facts
 	facts.RouteM = leg.RouteM
 	facts.MaxEMI = emi
@@ -339,14 +332,28 @@ func (s *Site) fillLeg(cm *costModel, prob *optimize.Problem, leg *Leg, ol optim
 	if ch.Medium != medium {
 		leg.Choice += fmt.Sprintf(" (the optimizer routed it for %s)", medium)
 	}
-	leg.Cost.CableCents = ch.CableCents
-	leg.Cost.OpticsCents = ch.CostCents - ch.CableCents - ch.LabourCents
-	leg.Cost.LabourCents = labour + ch.LabourCents
-	if cm.design.Innerduct() {
-		// The leg's innerduct along its duct spans, and the pull that places it.
-		leg.Cost.ConstructionCents += media.MulCents(cm.innerductPerM, ductM)
-		leg.Cost.LabourCents += media.MulCents(cm.labourPerM[geo.TypeDuct], ductM)
+	leg.Cost = legCost(cm.prices, s.legItems(cm.eng, cm.design, leg))
+}
+
+// legCost prices a leg's bill items one by one (media.PriceBook.Cents) into its breakdown:
+// cables, transitions and reel joins as cable; terminations, patch cords and transceivers
+// as optics; labour; innerduct as construction.
+func legCost(p *media.PriceBook, qs []media.Quantity) LegCost {
+	var c LegCost
+	for _, q := range qs {
+		x := p.Cents(q)
+		switch {
+		case q.Category == media.CategoryLabour:
+			c.LabourCents += x
+		case q.Category == media.CategoryOptics, q.Price.Item == media.PriceTermination, q.Price.Item == media.PricePatchCord:
+			c.OpticsCents += x
+		case q.Price.Item == media.PriceInnerduct, q.Category == media.CategoryConstruction:
+			c.ConstructionCents += x
+		default:
+			c.CableCents += x
+		}
 	}
+	return c
 }
 
 var emiRank = map[string]int{geo.EMINone: 0, geo.EMILow: 1, geo.EMIHigh: 2}

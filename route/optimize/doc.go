@@ -7,7 +7,7 @@
 //
 // The cost of a plan is, summed exactly in cents,
 //
-//	Σ demands Σ legs Σ edges   round(LengthM × CablePerMCents) + round(LengthM × LabourPerMCents)
+//	Σ demands Σ legs Σ edges   round(CableM × CablePerMCents) + round(LengthM × LabourPerMCents) + PerCableCents
 //	+ Σ opened proposed edges FixedCents (paid once, however many cables use the edge)
 //	+ Σ added ducts            round(LengthM × AddDuctPerMCents)
 //	+ Σ demands                Option.FixedCents

@@ -28,6 +28,8 @@ func Fingerprint(p *Problem, opt Settings) (sum [sha256.Size]byte, ok bool) {
 		f.int(int64(e.To))
 		f.float(e.LengthM)
 		f.int(e.LabourPerMCents)
+		f.float(e.CableM)
+		f.int(e.PerCableCents)
 		f.bool(e.Proposed)
 		f.int(e.FixedCents)
 		f.int(int64(e.Group))

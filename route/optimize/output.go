@@ -30,8 +30,8 @@ func (sv *solver) solution() *Solution {
 			for _, h := range hops {
 				e := &p.Edges[h.Edge]
 				legs[i].LengthM += e.LengthM
-				r.Cost.CableCents += centsFor(e.LengthM, op.CablePerMCents)
-				r.Cost.LabourCents += centsFor(e.LengthM, e.LabourPerMCents)
+				r.Cost.CableCents += cableCents(e, op.CablePerMCents)
+				r.Cost.LabourCents += labourCents(e)
 			}
 			sol.TotalM += legs[i].LengthM
 		}
@@ -97,7 +97,7 @@ func (sv *solver) legLess(a, b Leg, op *Option) bool {
 		var c int64
 		for _, h := range l.Hops {
 			e := &sv.p.Edges[h.Edge]
-			c += centsFor(e.LengthM, op.CablePerMCents) + centsFor(e.LengthM, e.LabourPerMCents) + e.FixedCents
+			c += cableCents(e, op.CablePerMCents) + labourCents(e) + e.FixedCents
 		}
 		return c
 	}

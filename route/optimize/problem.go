@@ -27,6 +27,16 @@ type Edge struct {
 	// it depends on the pathway type.
 	LabourPerMCents int64
 
+	// CableM is the cable one cable takes along this edge, in metres: LengthM with what the
+	// caller adds to it (slack loops stored at its ends, waste); 0 means LengthM. An option
+	// pays round(CableM × CablePerMCents) on the edge; reach still counts LengthM.
+	CableM float64
+
+	// PerCableCents is what each cable routed over the edge pays besides its cable and
+	// LabourPerMCents, in cents: costs the caller prices per item (labour at a productivity
+	// rate, material that goes with the cable) and sums per edge.
+	PerCableCents int64
+
 	// Proposed marks an edge that does not exist yet. It can be used only when Problem.AllowNew
 	// is set, and using it opens it: FixedCents (trench or bore, structures) is paid once,
 	// however many cables use it.
@@ -192,6 +202,12 @@ func validate(p *Problem, s Settings) error {
 		} else if e.LengthM > maxLengthM {
 			bad("%s: length_m: want at most %v, got %v", name, float64(maxLengthM), e.LengthM)
 		}
+		if !finiteNonNeg(e.CableM) || e.CableM > maxLengthM {
+			bad("%s: cable metres: want finite number in [0, %v], got %v", name, float64(maxLengthM), e.CableM)
+		}
+		if e.PerCableCents < 0 || e.PerCableCents > maxFixedCents {
+			bad("%s: per-cable cost: want cents in [0, %d], got %d", name, int64(maxFixedCents), e.PerCableCents)
+		}
 		if e.LabourPerMCents < 0 || e.LabourPerMCents > maxPerMCents {
 			bad("%s: labour per metre: want cents in [0, %d], got %d", name, int64(maxPerMCents), e.LabourPerMCents)
 		}
@@ -274,6 +290,19 @@ func reachMM(o *Option) int64 {
 func centsFor(lengthM float64, perMCents int64) int64 {
 	return int64(math.Round(lengthM * float64(perMCents)))
 }
+
+// cableCents is what one cable of an option priced perMCents a metre pays on edge e: its
+// cable over CableM (LengthM when unset), its labour per metre and its per-cable cents.
+func cableCents(e *Edge, perMCents int64) int64 {
+	m := e.CableM
+	if m == 0 {
+		m = e.LengthM
+	}
+	return centsFor(m, perMCents)
+}
+
+// labourCents is edge e's labour for one cable: per metre, and per cable.
+func labourCents(e *Edge) int64 { return centsFor(e.LengthM, e.LabourPerMCents) + e.PerCableCents }
 
 // lengthMM returns an edge length in whole millimetres.
 func lengthMM(lengthM float64) int64 { return int64(math.Round(lengthM * mmPerM)) }

@@ -35,8 +35,8 @@ func (l Leg) Nodes(edges []Edge) []int {
 // Breakdown is the cost of one demand in cents. Its parts add up to Total, and the Totals of
 // all routes add up to Solution.TotalCents.
 type Breakdown struct {
-	CableCents  int64 // Σ legs Σ edges round(LengthM × CablePerMCents)
-	LabourCents int64 // Σ legs Σ edges round(LengthM × LabourPerMCents)
+	CableCents  int64 // Σ legs Σ edges round(CableM × CablePerMCents)
+	LabourCents int64 // Σ legs Σ edges round(LengthM × LabourPerMCents) + PerCableCents
 	// ConstructionShareCents is the demand's share of the opened proposed edges it uses: each
 	// edge's FixedCents split equally among its users, the remainder cents to the first user
 	// in demand order.

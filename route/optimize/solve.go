@@ -280,7 +280,7 @@ func (sv *solver) baseFor(pr profile, cents bool) []int64 {
 		case sv.length && !cents:
 			b[i] = sv.net.lenMM[i]
 		default:
-			b[i] = centsFor(e.LengthM, pr.cablePerM) + centsFor(e.LengthM, e.LabourPerMCents)
+			b[i] = cableCents(e, pr.cablePerM) + labourCents(e)
 		}
 	}
 	return b
