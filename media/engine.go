@@ -875,6 +875,41 @@ func (e *Engine) CablePerMCents(medium string, strands int, outdoor bool) int64 
 	return c
 }
 
+// CableFor is the per-metre price in cents (all cables needed for strands strands) of the
+// cheapest construction of medium that carries a link with l's facts at rateGbps by every
+// rule, on some application at that rate and without an entrance transition, at a channel
+// of l's risers and slack plus one metre: what the rules let the medium run on whatever the
+// route's length (a rule on the risers, such as the 15 m limit of unlisted cable past an
+// entrance, already applies there). It falls back to CablePerMCents(medium, l.Strands,
+// l.Outdoor) when no construction passes, and panics on a medium not in the catalog.
+func (e *Engine) CableFor(medium string, rateGbps float64, l Link) int64 {
+	m := e.mustMedium(medium)
+	mi := slices.Index(e.cat.Media, m)
+	l.RateGbps = rateGbps
+	at := trialLengths(l, l.RiserM+l.SlackM+1)
+	best := int64(-1)
+	var c candidate
+	for ki, k := range m.Constructions {
+		for ai, a := range e.cat.Applications {
+			if _, on := a.On(m.ID); !on || a.RateGbps != rateGbps {
+				continue
+			}
+			if e.evaluate(&c, l, at, mi, ai, ki, nil); c.failed >= 0 {
+				continue
+			}
+			size, n := k.Fit(c.strands)
+			if perM, ok := e.prices.Price(PriceKey{Item: PriceCable, Medium: m.ID, Construction: k.ID, Count: size.Count}); ok && (best < 0 || perM*int64(n) < best) {
+				best = perM * int64(n)
+			}
+			break
+		}
+	}
+	if best < 0 {
+		return e.CablePerMCents(medium, l.Strands, l.Outdoor)
+	}
+	return best
+}
+
 // FixedCents is the length-independent part of the installed cost of a link on medium at
 // rateGbps, in cents: one termination per strand (per 4-pair cable for copper) at both ends
 // for max(strands, the application's strands), plus two transceivers, for the application

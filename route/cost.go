@@ -139,7 +139,7 @@ func newCostModel(eng *media.Engine, d Design) (*costModel, error) {
 	p := eng.PriceBook()
 	m := &costModel{eng: eng, prices: p, design: d, allowedMemo: map[allowedKey]bool{}}
 	var needs []media.PriceKey
-	for _, t := range []string{geo.TypeDuct, geo.TypeTunnel, geo.TypeAerial, geo.TypeBuried, geo.TypeTray} {
+	for _, t := range pathwayTypes {
 		needs = append(needs, keysOf(d.alongSpan(t, 1))...)
 	}
 	if err := p.Check(needs); err != nil {
@@ -156,9 +156,25 @@ func newCostModel(eng *media.Engine, d Design) (*costModel, error) {
 
 var labourHour = media.PriceKey{Item: media.PriceLabourHour}
 
+// pathwayTypes are the pathway types in a fixed order, and pullItems the bill items of
+// pulling cable in each.
+var (
+	pathwayTypes = [...]string{geo.TypeAerial, geo.TypeBuried, geo.TypeDuct, geo.TypeTray, geo.TypeTunnel}
+	pullItems    = func() (m [len(pathwayTypes)]string) {
+		for i, t := range pathwayTypes {
+			m[i] = "pull cable in " + t
+		}
+		return m
+	}()
+)
+
 // pullItem is pulling metres of one cable in a pathway of type typ.
 func pullItem(typ string, metres float64) media.Quantity {
-	return media.Quantity{Category: media.CategoryLabour, Item: "pull cable in " + typ, Unit: media.UnitM, Amount: metres,
+	item := "pull cable in " + typ
+	if i := slices.Index(pathwayTypes[:], typ); i >= 0 {
+		item = pullItems[i]
+	}
+	return media.Quantity{Category: media.CategoryLabour, Item: item, Unit: media.UnitM, Amount: metres,
 		Price: labourHour, Rate: media.PriceKey{Item: media.RatePull, Name: typ}}
 }
 
@@ -445,7 +461,10 @@ func (s *Site) demand(m *costModel, l *Link) (optimize.Demand, demandInfo) {
 		}
 		maxCh := m.eng.MaxChannelM(med, rate, future, facts)
 		maxRoute := maxCh - riser - slack - lateral
-		perM := m.eng.CablePerMCents(med, strands, true)
+		// The cable the rules let the medium run outdoors with this link's risers and slack.
+		outdoor := facts
+		outdoor.Outdoor, outdoor.SlackM = true, coils+2*endLoops
+		perM := m.eng.CableFor(med, rate, outdoor)
 		fixed := m.eng.FixedCents(med, rate, strands)
 		switch {
 		case perM < 0 || fixed < 0:

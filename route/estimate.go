@@ -3,6 +3,7 @@ package route
 import (
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 	"strconv"
 
@@ -648,11 +649,17 @@ func (s *Site) legItems(eng *media.Engine, d Design, l *Leg) []media.Quantity {
 		add(media.CategoryMaterial, fmt.Sprintf("splice tray, %d splices", p.TraySplices()), media.UnitEach, joins*float64(p.TraysFor(t.Size.Count)), media.PriceKey{Item: media.PriceSpliceTray})
 		work("splice fibre, mid-span joins", media.UnitEach, joins*float64(t.Size.Count), media.PriceKey{Item: media.RateSplice})
 	}
-	// Along the route, span by span; then risers, coils and entrance loops in tray,
+	// Along the route by pathway type; then risers, coils and entrance loops in tray,
 	// laterals buried, structure loops in duct.
+	var alongM [len(pathwayTypes)]float64
 	for _, st := range l.Steps {
 		sp, _ := s.Net.Span(st.SpanID)
-		times(n, d.alongSpan(sp.Type, sp.LengthM)...)
+		alongM[slices.Index(pathwayTypes[:], sp.Type)] += sp.LengthM
+	}
+	for i, m := range alongM {
+		if m > 0 {
+			times(n, d.alongSpan(pathwayTypes[i], m)...)
+		}
 	}
 	times(n, legEnds(l.RiserM, t.EndSlackM+t.EntranceLoopM, l.LateralM)...)
 	times(n, structureLoops(t.StructureLoopM)...)

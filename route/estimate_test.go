@@ -888,7 +888,7 @@ func TestConstructionBore(t *testing.T) {
 // of a 50 mm duct is within 53 %, two at 82 % are over 31 %), so where B's and C's routes share
 // D a duct is added; the bill adds the innerduct along every duct span and its placing pull,
 // and the legs' costs carry them at the demo book's 2.40 per metre and 92.00 per hour at 60 m
-// per hour, each duct span priced alone (media.PriceBook.Cents). A cable too large for the
+// per hour, over the leg's duct metres (media.PriceBook.Cents). A cable too large for the
 // innerduct is kept off ducts.
 func TestInnerduct(t *testing.T) {
 	t.Parallel()
@@ -933,15 +933,13 @@ func TestInnerduct(t *testing.T) {
 		_, lp := legOf(t, plain, name)
 		_, li := legOf(t, inner, name)
 		m := 0.0
-		var labour, material int64
 		for _, st := range li.Steps {
 			if sp, _ := inner.Site.Net.Span(st.SpanID); sp.Type == geo.TypeDuct {
 				m += sp.LengthM
-				labour += int64(math.Round(sp.LengthM * 9200 / 60))
-				material += media.MulCents(240, sp.LengthM)
 			}
 		}
 		ductM += m
+		labour, material := int64(math.Round(m*9200/60)), media.MulCents(240, m)
 		if got, want := li.Cost.LabourCents-lp.Cost.LabourCents, labour; got != want {
 			t.Errorf("%s: innerduct placing labour %d cents, want %d (92.00 per hour at 60 m per hour over %.1f m)", name, got, want, m)
 		}

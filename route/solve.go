@@ -50,12 +50,13 @@ type Leg struct {
 	Cost LegCost
 }
 
-// LegCost breaks down what one leg costs, in integer cents of the price book's currency.
+// LegCost breaks down what one leg costs, in integer cents of the price book's currency: its
+// bill items (legItems) priced one by one, and its share of new construction.
 type LegCost struct {
-	CableCents        int64 // cable material
-	LabourCents       int64 // installation labour along the route
-	ConstructionCents int64 // this leg's share of new trench it opens, and of added duct
-	OpticsCents       int64 // terminations and transceivers
+	CableCents        int64 // cable material, entrance transitions and reel joins
+	LabourCents       int64 // installation labour: pulls, splicing, terminating, testing
+	ConstructionCents int64 // innerduct, and this leg's share of new trench it opens and of added duct
+	OpticsCents       int64 // terminations, patch cords and transceivers
 }
 
 // TotalCents is the sum of the breakdown.
@@ -80,6 +81,9 @@ type Result struct {
 	Engine *media.Engine // the engine that chose the media
 	Opened []string      // proposed spans the plan builds, by span ID
 	Fill   []SegmentFill // duct fill of every span that carries cable, by span ID
+	// ObjectiveCents is the optimizer's objective for the routes it returned
+	// (optimize.Solution.TotalCents): see the README's "One cost model".
+	ObjectiveCents int64
 
 	// Estimate is the installation takeoff and priced bill of materials (see Estimate).
 	Estimate *Estimate
@@ -224,6 +228,7 @@ func SolveWith(ctx context.Context, s *Site, p *Plan, eng *media.Engine) (*Resul
 	for _, w := range s.Net.Warnings {
 		r.Warnings = append(r.Warnings, w.File+": "+w.Feature+": "+w.Message)
 	}
+	r.ObjectiveCents = sol.TotalCents
 	for _, e := range sol.Opened {
 		r.Opened = append(r.Opened, s.Net.Spans[e].ID)
 	}
