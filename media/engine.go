@@ -1,6 +1,7 @@
 package media
 
 import (
+	"cmp"
 	"fmt"
 	"math"
 	"slices"
@@ -887,21 +888,38 @@ func (e *Engine) CableFor(medium string, rateGbps float64, l Link) int64 {
 	mi := slices.Index(e.cat.Media, m)
 	l.RateGbps = rateGbps
 	at := trialLengths(l, l.RiserM+l.SlackM+1)
+	// The constructions by price, cheapest first: the first that passes is the answer.
+	type priced struct {
+		ki   int
+		perM int64
+	}
+	var ks []priced
+	for ki, k := range m.Constructions {
+		strands := l.Strands
+		if m.Kind == KindCopper {
+			strands = (strands + 1) / 2
+		}
+		size, n := k.Fit(strands)
+		if perM, ok := e.prices.Price(PriceKey{Item: PriceCable, Medium: m.ID, Construction: k.ID, Count: size.Count}); ok {
+			ks = append(ks, priced{ki, perM * int64(n)})
+		}
+	}
+	slices.SortStableFunc(ks, func(a, b priced) int { return cmp.Compare(a.perM, b.perM) })
 	best := int64(-1)
 	var c candidate
-	for ki, k := range m.Constructions {
+search:
+	for _, k := range ks {
 		for ai, a := range e.cat.Applications {
 			if _, on := a.On(m.ID); !on || a.RateGbps != rateGbps {
 				continue
 			}
-			if e.evaluate(&c, l, at, mi, ai, ki, nil); c.failed >= 0 {
-				continue
+			if e.evaluate(&c, l, at, mi, ai, k.ki, nil); c.failed < 0 {
+				size, n := m.Constructions[k.ki].Fit(c.strands)
+				if perM, ok := e.prices.Price(PriceKey{Item: PriceCable, Medium: m.ID, Construction: m.Constructions[k.ki].ID, Count: size.Count}); ok {
+					best = perM * int64(n)
+				}
+				break search
 			}
-			size, n := k.Fit(c.strands)
-			if perM, ok := e.prices.Price(PriceKey{Item: PriceCable, Medium: m.ID, Construction: k.ID, Count: size.Count}); ok && (best < 0 || perM*int64(n) < best) {
-				best = perM * int64(n)
-			}
-			break
 		}
 	}
 	if best < 0 {

@@ -394,9 +394,10 @@ func (s *Site) problem(m *costModel, links []Link) (*optimize.Problem, []demandI
 			e.Proposed, e.FixedCents = true, m.cents(open...)
 		} else if sp.Type == geo.TypeDuct {
 			e.Ducts, e.DuctIDMM = sp.SpareDucts, sp.DuctMM
-			work := append(newWork(sp, 1), addedDuct(1))
-			if m.prices.Check(keysOf(work)) == nil && m.perM(addedDuct(1)) > 0 {
-				e.AddDuctPerMCents = m.perM(work...)
+			// One trench or bore beside the span however many ducts it gets, and the ducts.
+			work := newWork(sp, 1)
+			if m.prices.Check(keysOf(append(work, addedDuct(1)))) == nil && m.perM(addedDuct(1)) > 0 {
+				e.AddDuctPerMCents, e.AddTrenchPerMCents = m.perM(addedDuct(1)), m.perM(work...)
 			}
 		}
 		p.Edges[i] = e

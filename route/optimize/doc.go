@@ -10,6 +10,7 @@
 //	Σ demands Σ legs Σ edges   round(CableM × CablePerMCents) + round(LengthM × LabourPerMCents) + PerCableCents
 //	+ Σ opened proposed edges FixedCents (paid once, however many cables use the edge)
 //	+ Σ added ducts            round(LengthM × AddDuctPerMCents)
+//	+ Σ edges with added ducts round(LengthM × AddTrenchPerMCents) (once per edge)
 //	+ Σ demands                Option.FixedCents
 //
 // Solve decides the medium and the route together, keeps every demand within its medium's

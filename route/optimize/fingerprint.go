@@ -37,6 +37,7 @@ func Fingerprint(p *Problem, opt Settings) (sum [sha256.Size]byte, ok bool) {
 		f.int(int64(e.Ducts))
 		f.float(e.DuctIDMM)
 		f.int(e.AddDuctPerMCents)
+		f.int(e.AddTrenchPerMCents)
 	}
 	f.int(int64(len(p.Demands)))
 	for i := range p.Demands {

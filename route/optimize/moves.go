@@ -265,7 +265,7 @@ func (sv *solver) saveBound(d int, open []int32) int64 {
 					cur += sv.fixedE[h.Edge]
 				}
 				if sv.limited[h.Edge] && st.added[h.Edge] > 0 && sv.holdsLastDuct(int32(h.Edge), area) {
-					cur += sv.ductCent[h.Edge]
+					cur += sv.lastDuctCents(h.Edge)
 				}
 			}
 		}

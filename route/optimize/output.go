@@ -78,7 +78,7 @@ func (sv *solver) solution() *Solution {
 			prev := 0
 			for i, k := range sv.cap.prefixNeeds(e, ods) {
 				if k > prev {
-					sol.Routes[users[i]].Cost.AddedDuctCents += int64(k-prev) * sv.ductCent[e]
+					sol.Routes[users[i]].Cost.AddedDuctCents += sv.ductsCents(e, k) - sv.ductsCents(e, prev)
 					prev = k
 				}
 			}

@@ -59,6 +59,10 @@ type Edge struct {
 	// AddDuctPerMCents is the price, in cents per metre, of adding one duct of DuctIDMM
 	// along this edge when its spare ducts are full; 0 means no duct can be added.
 	AddDuctPerMCents int64
+
+	// AddTrenchPerMCents is the price, in cents per metre, of the trench or bore the first
+	// added duct needs along this edge: paid once, however many ducts are added.
+	AddTrenchPerMCents int64
 }
 
 // limited reports whether the edge's capacity is checked.
@@ -213,6 +217,9 @@ func validate(p *Problem, s Settings) error {
 		}
 		if e.FixedCents < 0 || e.FixedCents > maxFixedCents {
 			bad("%s: fixed cost: want cents in [0, %d], got %d", name, int64(maxFixedCents), e.FixedCents)
+		}
+		if e.AddTrenchPerMCents < 0 || e.AddTrenchPerMCents > maxPerMCents {
+			bad("%s: added-duct trench price per metre: want cents in [0, %d], got %d", name, int64(maxPerMCents), e.AddTrenchPerMCents)
 		}
 		if e.AddDuctPerMCents < 0 || e.AddDuctPerMCents > maxPerMCents {
 			bad("%s: add-duct price per metre: want cents in [0, %d], got %d", name, int64(maxPerMCents), e.AddDuctPerMCents)

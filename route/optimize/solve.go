@@ -78,8 +78,10 @@ type solver struct {
 	limited  []bool
 	tracked  []bool
 	ductCent []int64 // edge → cents per added duct
-	groups   map[int][]int32
-	proposed []int32
+	// trenchCent is edge → cents of the trench the first added duct needs (ductsCents).
+	trenchCent []int64
+	groups     map[int][]int32
+	proposed   []int32
 
 	costTrees   []*tree     // slot × profiles + profile, see slot
 	planTrees   []*planTree // slot × profiles + profile
@@ -159,7 +161,7 @@ func newSolver(p *Problem, opt Settings) *solver {
 	sv := &solver{
 		p: p, net: net, length: opt.Objective == ObjectiveLength, maxRounds: opt.MaxRounds,
 		lenClass: map[uint64]int{}, fixedE: make([]int64, ne), limited: make([]bool, ne), tracked: make([]bool, ne),
-		ductCent: make([]int64, ne), groups: map[int][]int32{},
+		ductCent: make([]int64, ne), trenchCent: make([]int64, ne), groups: map[int][]int32{},
 		propIdx: make([]int32, ne), comps: map[uint64][]int{}, anchorSlot: make([]int32, max(p.Nodes, 0)),
 		failedClose: map[int32]uint64{}, failedOpen: map[string]uint64{}, estMemo: map[estKey]estRec{},
 		cap:    capacity{edges: p.Edges, fits: p.Fits},
@@ -189,6 +191,7 @@ func newSolver(p *Problem, opt Settings) *solver {
 		if e.limited() {
 			sv.limited[i], sv.tracked[i] = true, true
 			sv.ductCent[i] = centsFor(e.LengthM, e.AddDuctPerMCents)
+			sv.trenchCent[i] = centsFor(e.LengthM, e.AddTrenchPerMCents)
 		}
 		if e.Group > 0 {
 			sv.groups[e.Group] = append(sv.groups[e.Group], int32(i))
