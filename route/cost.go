@@ -41,6 +41,7 @@ type costModel struct {
 	prices      *media.PriceBook
 	design      Design
 	allowedMemo map[allowedKey]bool
+	cableMemo   map[cableKey]int64
 	// classes are the span classes of the campus in a fixed order, and classBit each one's flag.
 	classes  []spanClass
 	classBit map[spanClass]uint64
@@ -137,7 +138,7 @@ func (d Design) innerductFits(cableODMM float64) bool {
 // plan need; a missing one is an error naming its key.
 func newCostModel(eng *media.Engine, d Design) (*costModel, error) {
 	p := eng.PriceBook()
-	m := &costModel{eng: eng, prices: p, design: d, allowedMemo: map[allowedKey]bool{}}
+	m := &costModel{eng: eng, prices: p, design: d, allowedMemo: map[allowedKey]bool{}, cableMemo: map[cableKey]int64{}}
 	var needs []media.PriceKey
 	for _, t := range pathwayTypes {
 		needs = append(needs, keysOf(d.alongSpan(t, 1))...)
@@ -462,10 +463,7 @@ func (s *Site) demand(m *costModel, l *Link) (optimize.Demand, demandInfo) {
 		}
 		maxCh := m.eng.MaxChannelM(med, rate, future, facts)
 		maxRoute := maxCh - riser - slack - lateral
-		// The cable the rules let the medium run outdoors with this link's risers and slack.
-		outdoor := facts
-		outdoor.Outdoor, outdoor.SlackM = true, coils+2*endLoops
-		perM := m.eng.CableFor(med, rate, outdoor)
+		perM := m.cableFor(med, rate, facts, coils+2*endLoops)
 		fixed := m.eng.FixedCents(med, rate, strands)
 		switch {
 		case perM < 0 || fixed < 0:
@@ -493,6 +491,26 @@ func (s *Site) demand(m *costModel, l *Link) (optimize.Demand, demandInfo) {
 		info.options = append(info.options, med)
 	}
 	return dm, info
+}
+
+// cableKey is what cableFor's answer depends on.
+type cableKey struct {
+	medium                       string
+	rate, future, riserM, slackM float64
+	strands                      int
+}
+
+// cableFor is the cable price per metre the rules let medium run outdoors with the link's
+// risers and slackM of slack (media.Engine.CableFor), remembered per plan.
+func (m *costModel) cableFor(medium string, rate float64, facts media.Link, slackM float64) int64 {
+	k := cableKey{medium, rate, facts.FutureRateGbps, facts.RiserM, slackM, facts.Strands}
+	if v, ok := m.cableMemo[k]; ok {
+		return v
+	}
+	facts.Outdoor, facts.SlackM = true, slackM
+	v := m.eng.CableFor(medium, rate, facts)
+	m.cableMemo[k] = v
+	return v
 }
 
 // cableOD is the outside diameter in millimetres of the outdoor-rated cable of the medium

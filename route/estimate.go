@@ -599,7 +599,7 @@ func (r *Result) construction() {
 // cables. The bill adds them up; the leg's cost (LegCost) is them priced one by one.
 func (s *Site) legItems(eng *media.Engine, d Design, l *Leg) []media.Quantity {
 	p := eng.PriceBook()
-	var qs []media.Quantity
+	qs := make([]media.Quantity, 0, 24)
 	add := func(category, item, unit string, amount float64, price media.PriceKey) {
 		qs = append(qs, media.Quantity{Category: category, Item: item, Unit: unit, Amount: amount, Price: price})
 	}
@@ -666,11 +666,12 @@ func (s *Site) legItems(eng *media.Engine, d Design, l *Leg) []media.Quantity {
 	return qs
 }
 
-// quantities lists everything the bill of materials prices.
+// quantities lists everything the bill of materials prices, and sets each feasible leg's
+// cost from its items (legCost).
 func (r *Result) quantities() {
 	e := r.Estimate
 	p := r.Engine.PriceBook()
-	e.Quantities = make([]media.Quantity, 0, 16*len(r.Legs)+8*len(e.Buildings)+8)
+	e.Quantities = make([]media.Quantity, 0, 20*len(r.Legs)+8*len(e.Buildings)+8)
 	add := func(category, item, unit string, amount float64, price media.PriceKey) {
 		e.Quantities = append(e.Quantities, media.Quantity{Category: category, Item: item, Unit: unit, Amount: amount, Price: price})
 	}
@@ -680,7 +681,12 @@ func (r *Result) quantities() {
 	}
 	for i := range r.Legs {
 		if l := &r.Legs[i]; l.Feasible {
-			e.Quantities = append(e.Quantities, r.Site.legItems(r.Engine, design, l)...)
+			items := r.Site.legItems(r.Engine, design, l)
+			// The leg's cost: its items priced one by one, and its share of new construction.
+			c := legCost(p, items)
+			c.ConstructionCents += l.Cost.ConstructionCents
+			l.Cost = c
+			e.Quantities = append(e.Quantities, items...)
 		}
 	}
 	for _, c := range e.Buildings {

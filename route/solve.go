@@ -284,8 +284,8 @@ func (s *Site) legsOf(cm *costModel, prob *optimize.Problem, rt *optimize.Route,
 	return legs
 }
 
-// fillLeg sets a leg's route, its medium from the rule engine on the route's own facts, and
-// its cable, labour and optics costs.
+// fillLeg sets a leg's route and its medium from the rule engine on the route's own facts;
+// the estimate prices it (Result.quantities).
 func (s *Site) fillLeg(cm *costModel, prob *optimize.Problem, leg *Leg, ol optimize.Leg, medium string, info demandInfo) {
 	leg.RouteM = leg.LateralM
 	emi := geo.EMINone
@@ -337,7 +337,6 @@ func (s *Site) fillLeg(cm *costModel, prob *optimize.Problem, leg *Leg, ol optim
 	if ch.Medium != medium {
 		leg.Choice += fmt.Sprintf(" (the optimizer routed it for %s)", medium)
 	}
-	leg.Cost = legCost(cm.prices, s.legItems(cm.eng, cm.design, leg))
 }
 
 // legCost prices a leg's bill items one by one (media.PriceBook.Cents) into its breakdown:
