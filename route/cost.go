@@ -441,10 +441,6 @@ func (s *Site) demand(m *costModel, l *Link) (optimize.Demand, demandInfo) {
 	endLoops := (s.loopM(d, src.Junction) + s.loopM(d, dst.Junction)) / 2
 	ends := riser + lateral + coils + endLoops
 	endItems := append(legEnds(riser, coils, lateral), structureLoops(endLoops)...)
-	legs := int64(1)
-	if l.Diverse {
-		legs = 2
-	}
 	facts := media.Link{ID: l.ID, RiserM: riser, SlackM: slack, RateGbps: rate, FutureRateGbps: future,
 		MaxEMI: geo.EMINone, ConnectorPairs: ConnectorPairs, Strands: strands}
 	info := demandInfo{facts: facts, rate: rate, strands: strands, constM: riser + lateral + slack}
@@ -475,8 +471,13 @@ func (s *Site) demand(m *costModel, l *Link) (optimize.Demand, demandInfo) {
 		}
 		// What the leg takes whatever its path: the cable of its risers, laterals, service coils,
 		// entrance loops and the halves of the structure loops at its ends that its spans leave
-		// out (problem), with waste, and their pulls; a diverse link has two such legs.
-		fixed = legs * (fixed + media.MulCents(perM, d.wasted(ends)) + m.cents(endItems...))
+		// out (problem), with waste, and their pulls; a diverse link pays them again for its
+		// second leg, when it gets one.
+		fixed += media.MulCents(perM, d.wasted(ends)) + m.cents(endItems...)
+		second := int64(0)
+		if l.Diverse {
+			second = fixed
+		}
 		od := cableOD(mm, strands)
 		if d.Innerduct() {
 			if !d.innerductFits(od) {
@@ -486,7 +487,7 @@ func (s *Site) demand(m *costModel, l *Link) (optimize.Demand, demandInfo) {
 			}
 			od = d.InnerductODMM // ducts hold the innerducts
 		}
-		dm.Options = append(dm.Options, optimize.Option{Name: med, CablePerMCents: perM, FixedCents: fixed,
+		dm.Options = append(dm.Options, optimize.Option{Name: med, CablePerMCents: perM, FixedCents: fixed, SecondLegCents: second,
 			MaxRouteM: maxRoute, ExcludeFlags: exclude, CableODMM: od})
 		info.options = append(info.options, med)
 	}

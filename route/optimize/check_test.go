@@ -96,6 +96,9 @@ func verifyErr(p *Problem, sol *Solution) error {
 			}
 		}
 		b.FixedCents = op.FixedCents
+		if len(legs) == 2 {
+			b.FixedCents += op.SecondLegCents
+		}
 		r.Cost.ConstructionShareCents, r.Cost.AddedDuctCents = 0, 0
 		if b != r.Cost {
 			return fmt.Errorf("demand %d: breakdown %+v, recomputed %+v", d, r.Cost, b)

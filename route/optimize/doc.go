@@ -11,7 +11,7 @@
 //	+ Σ opened proposed edges FixedCents (paid once, however many cables use the edge)
 //	+ Σ added ducts            round(LengthM × AddDuctPerMCents)
 //	+ Σ edges with added ducts round(LengthM × AddTrenchPerMCents) (once per edge)
-//	+ Σ demands                Option.FixedCents
+//	+ Σ demands                Option.FixedCents (+ Option.SecondLegCents with a diverse pair)
 //
 // Solve decides the medium and the route together, keeps every demand within its medium's
 // reach, shares new trench between demands (a fixed-charge network design problem, solved by

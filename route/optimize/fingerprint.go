@@ -52,6 +52,7 @@ func Fingerprint(p *Problem, opt Settings) (sum [sha256.Size]byte, ok bool) {
 			f.str(o.Name)
 			f.int(o.CablePerMCents)
 			f.int(o.FixedCents)
+			f.int(o.SecondLegCents)
 			f.float(o.MaxRouteM)
 			f.uint(o.ExcludeFlags)
 			f.float(o.CableODMM)

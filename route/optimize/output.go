@@ -44,7 +44,7 @@ func (sv *solver) solution() *Solution {
 		} else if dm.Diverse {
 			r.SinglePoint, r.Note = sv.singlePoint(d, c.opt)
 		}
-		r.Cost.FixedCents = op.FixedCents
+		r.Cost.FixedCents = sv.optionCents(d, c.opt, len(c.legs))
 	}
 	// Construction shares and added ducts, edge by edge.
 	for e := range p.Edges {

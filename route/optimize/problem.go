@@ -78,6 +78,11 @@ type Option struct {
 	// FixedCents is the route-independent cost of the option (terminations, transceivers), in cents.
 	FixedCents int64
 
+	// SecondLegCents is the route-independent cost of a diverse demand's second leg, in
+	// cents, paid only when the demand gets its pair (a second cable's terminations,
+	// transceivers, risers).
+	SecondLegCents int64
+
 	// MaxRouteM is the longest route, in metres, that the medium reaches along pathways (the
 	// caller has already taken off risers and slack); math.Inf(1) or 0 means no limit.
 	MaxRouteM float64
@@ -273,6 +278,9 @@ func demandProblem(p *Problem, d *Demand) string {
 		if o.FixedCents < 0 || o.FixedCents > maxOptionCent {
 			msgs = append(msgs, fmt.Sprintf("%s: fixed cost: want cents in [0, %d], got %d", name, int64(maxOptionCent), o.FixedCents))
 		}
+		if o.SecondLegCents < 0 || o.SecondLegCents > maxOptionCent {
+			msgs = append(msgs, fmt.Sprintf("%s: second-leg cost: want cents in [0, %d], got %d", name, int64(maxOptionCent), o.SecondLegCents))
+		}
 		if math.IsNaN(o.MaxRouteM) || o.MaxRouteM < 0 {
 			msgs = append(msgs, fmt.Sprintf("%s: reach: want metres >= 0 or +Inf, got %v", name, o.MaxRouteM))
 		}
@@ -296,6 +304,16 @@ func reachMM(o *Option) int64 {
 // an edge. Every sum in the package adds these per-edge values, so totals are exact.
 func centsFor(lengthM float64, perMCents int64) int64 {
 	return int64(math.Round(lengthM * float64(perMCents)))
+}
+
+// optionCents is what option o of demand d costs whatever its route, with legs legs: its
+// FixedCents, and its SecondLegCents with a second leg.
+func (sv *solver) optionCents(d, o, legs int) int64 {
+	op := &sv.p.Demands[d].Options[o]
+	if legs >= 2 {
+		return op.FixedCents + op.SecondLegCents
+	}
+	return op.FixedCents
 }
 
 // cableCents is what one cable of an option priced perMCents a metre pays on edge e: its

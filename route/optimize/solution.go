@@ -44,7 +44,7 @@ type Breakdown struct {
 	// AddedDuctCents is the price of the ducts added because this demand's cable did not fit
 	// (charged to the demand whose cable, pulled in demand order, first needed the duct).
 	AddedDuctCents int64
-	FixedCents     int64 // the option's FixedCents
+	FixedCents     int64 // the option's FixedCents, and its SecondLegCents with a diverse pair
 }
 
 // Total returns the sum of the parts, in cents.

@@ -474,11 +474,13 @@ func (sv *solver) best(d int) choice {
 		if lb < 0 {
 			continue
 		}
+		legs := 1
 		if dm.Diverse {
 			lb *= 2
+			legs = 2
 		}
 		if !sv.length {
-			lb += dm.Options[o].FixedCents
+			lb += sv.optionCents(d, o, legs)
 		}
 		order = append(order, lbo{lb, o})
 	}
@@ -505,10 +507,10 @@ func (sv *solver) best(d int) choice {
 				mm += sv.net.lenMM[h.Edge]
 			}
 		}
-		c := cand{obj: w + dm.Options[o].FixedCents, lenMM: mm, opt: o}
+		c := cand{obj: w + sv.optionCents(d, o, n), lenMM: mm, opt: o}
 		if sv.length {
 			// The length objective routes by metres but chooses the cheapest medium.
-			c.obj = vc + dm.Options[o].FixedCents
+			c.obj = vc + sv.optionCents(d, o, n)
 		}
 		if c.less(bestC) {
 			bestC = c
@@ -534,7 +536,7 @@ func (sv *solver) best(d int) choice {
 				consider(x.opt, legs, 2, w)
 			} else if tooLong {
 				// The cheapest pair, too long, bounds every pair within reach from below.
-				x.lb = max(x.lb, w+dm.Options[x.opt].FixedCents)
+				x.lb = max(x.lb, w+sv.optionCents(d, x.opt, 2))
 				if sv.length {
 					x.lb = 0
 				}
@@ -556,7 +558,7 @@ func (sv *solver) best(d int) choice {
 		for i := range order { // single-path bounds are half the pair bounds
 			if !sv.length {
 				o := order[i].opt
-				order[i].lb = (order[i].lb-dm.Options[o].FixedCents)/2 + dm.Options[o].FixedCents
+				order[i].lb = (order[i].lb-sv.optionCents(d, o, 2))/2 + dm.Options[o].FixedCents
 			}
 		}
 	}

@@ -252,7 +252,7 @@ func (sv *solver) add(d int, c choice) {
 	if sv.p.Demands[d].Diverse && len(c.legs) < 2 {
 		st.unmet++
 	}
-	st.total += c.varCost + sv.p.Demands[d].Options[c.opt].FixedCents
+	st.total += c.varCost + sv.optionCents(d, c.opt, len(c.legs))
 	st.totalMM += c.lenMM
 	for _, leg := range c.legs {
 		for _, h := range leg {
@@ -316,7 +316,7 @@ func (sv *solver) remove(d int) choice {
 			}
 		}
 	}
-	st.total -= c.varCost + sv.p.Demands[d].Options[c.opt].FixedCents
+	st.total -= c.varCost + sv.optionCents(d, c.opt, len(c.legs))
 	st.totalMM -= c.lenMM
 	if sv.p.Demands[d].Diverse && len(c.legs) < 2 {
 		st.unmet--
