@@ -202,6 +202,42 @@ func (p *PriceBook) Bill(qs []Quantity) (*BOM, error) {
 	return b, nil
 }
 
+// UnitCents is the price of one unit of q's Amount, in cents, and whether the book has the
+// prices it needs: the price of q.Price, or for labour (q.Rate set) the hourly price over the
+// productivity rate, e.g. cents per metre pulled. Bill prices a line of such quantities;
+// the route optimizer prices the same quantities with it one route at a time.
+func (p *PriceBook) UnitCents(q Quantity) (float64, bool) {
+	c, ok := p.Price(q.Price)
+	if !ok {
+		return 0, false
+	}
+	if q.Rate.Item == "" {
+		return float64(c), true
+	}
+	r, ok := p.Rate(q.Rate)
+	if !ok || !finite(r) || r <= 0 {
+		return 0, false
+	}
+	return float64(c) / r, true
+}
+
+// Cents is q alone priced, Amount × UnitCents rounded half away from zero to a cent; 0 when
+// the book lacks a price it needs (Bill reports those). Summed over the quantities of one
+// line it differs from the line's ExtendedCents only by the line's rounding: metres to
+// 0.1 m (at most 0.05 m × the unit price) and hours up to 0.01 h (at most 0.01 h × the
+// hourly price), each plus half a cent.
+func (p *PriceBook) Cents(q Quantity) int64 {
+	u, ok := p.UnitCents(q)
+	if !ok {
+		return 0
+	}
+	x := q.Amount * u
+	if x < 0 {
+		return -int64(-x + 0.5)
+	}
+	return int64(x + 0.5)
+}
+
 // ExtendCents is a quantity given in hundredths of its unit times a unit price in cents,
 // rounded half up to a whole cent: the extended price of a BOM line. A spreadsheet gets the
 // same with ROUND(quantity × unit price, 2).

@@ -1,6 +1,7 @@
 package media
 
 import (
+	"cmp"
 	"fmt"
 	"math"
 	"slices"
@@ -873,6 +874,58 @@ func (e *Engine) CablePerMCents(medium string, strands int, outdoor bool) int64 
 		return -1
 	}
 	return c
+}
+
+// CableFor is the per-metre price in cents (all cables needed for strands strands) of the
+// cheapest construction of medium that carries a link with l's facts at rateGbps by every
+// rule, on some application at that rate and without an entrance transition, at a channel
+// of l's risers and slack plus one metre: what the rules let the medium run on whatever the
+// route's length (a rule on the risers, such as the 15 m limit of unlisted cable past an
+// entrance, already applies there). It falls back to CablePerMCents(medium, l.Strands,
+// l.Outdoor) when no construction passes, and panics on a medium not in the catalog.
+func (e *Engine) CableFor(medium string, rateGbps float64, l Link) int64 {
+	m := e.mustMedium(medium)
+	mi := slices.Index(e.cat.Media, m)
+	l.RateGbps = rateGbps
+	at := trialLengths(l, l.RiserM+l.SlackM+1)
+	// The constructions by price, cheapest first: the first that passes is the answer.
+	type priced struct {
+		ki   int
+		perM int64
+	}
+	var ks []priced
+	for ki, k := range m.Constructions {
+		strands := l.Strands
+		if m.Kind == KindCopper {
+			strands = (strands + 1) / 2
+		}
+		size, n := k.Fit(strands)
+		if perM, ok := e.prices.Price(PriceKey{Item: PriceCable, Medium: m.ID, Construction: k.ID, Count: size.Count}); ok {
+			ks = append(ks, priced{ki, perM * int64(n)})
+		}
+	}
+	slices.SortStableFunc(ks, func(a, b priced) int { return cmp.Compare(a.perM, b.perM) })
+	best := int64(-1)
+	var c candidate
+search:
+	for _, k := range ks {
+		for ai, a := range e.cat.Applications {
+			if _, on := a.On(m.ID); !on || a.RateGbps != rateGbps {
+				continue
+			}
+			if e.evaluate(&c, l, at, mi, ai, k.ki, nil); c.failed < 0 {
+				size, n := m.Constructions[k.ki].Fit(c.strands)
+				if perM, ok := e.prices.Price(PriceKey{Item: PriceCable, Medium: m.ID, Construction: m.Constructions[k.ki].ID, Count: size.Count}); ok {
+					best = perM * int64(n)
+				}
+				break search
+			}
+		}
+	}
+	if best < 0 {
+		return e.CablePerMCents(medium, l.Strands, l.Outdoor)
+	}
+	return best
 }
 
 // FixedCents is the length-independent part of the installed cost of a link on medium at

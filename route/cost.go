@@ -36,17 +36,14 @@ func CableStrands(required int, growth float64) int {
 // panel at each end (ANSI/TIA-568.3-D channel model).
 const ConnectorPairs = 2
 
-// costModel prices a plan's pathways and media from the engine and its price book.
+// costModel prices a plan's pathways and media from the engine and its price book, with the
+// item functions below, which the bill of materials (quantities) calls too.
 type costModel struct {
-	eng    *media.Engine
-	prices *media.PriceBook
-	design Design
-	// labourPerM holds installation labour in cents per metre of one cable, by pathway type.
-	labourPerM map[string]int64
-	// innerductPerM is the innerduct material per metre, when the design places innerduct;
-	// placing it costs labourPerM[duct] again (one more pull).
-	innerductPerM int64
-	allowedMemo   map[allowedKey]bool
+	eng         *media.Engine
+	prices      *media.PriceBook
+	design      Design
+	allowedMemo map[allowedKey]bool
+	cableMemo   map[cableKey]int64
 	// classes are the span classes of the campus in a fixed order, and classBit each one's flag.
 	classes  []spanClass
 	classBit map[spanClass]uint64
@@ -166,44 +163,158 @@ func (d Design) innerductFits(cableODMM float64) bool {
 	return cableODMM*cableODMM <= 0.53*d.InnerductIDMM*d.InnerductIDMM
 }
 
-// ductPerCablePerM is what one cable costs per metre of a duct span beyond its own price and
-// pull: with innerduct, the innerduct and the pull that places it.
-func (m *costModel) ductPerCablePerM() int64 {
-	if !m.design.Innerduct() {
-		return 0
-	}
-	return m.innerductPerM + m.labourPerM[geo.TypeDuct]
-}
-
-// newCostModel reads the labour rates the plan needs; a missing rate is an error naming its key.
+// newCostModel checks that the price book has every price the route-dependent items of the
+// plan need; a missing one is an error naming its key.
 func newCostModel(eng *media.Engine, d Design) (*costModel, error) {
 	p := eng.PriceBook()
-	m := &costModel{eng: eng, prices: p, design: d, labourPerM: map[string]int64{},
-		allowedMemo: map[allowedKey]bool{}}
-	hour, ok := p.Price(media.PriceKey{Item: media.PriceLabourHour})
-	var missing []string
-	if !ok {
-		missing = append(missing, media.PriceKey{Item: media.PriceLabourHour}.Path())
+	m := &costModel{eng: eng, prices: p, design: d, allowedMemo: map[allowedKey]bool{}, cableMemo: map[cableKey]int64{}}
+	var needs []media.PriceKey
+	for _, t := range pathwayTypes {
+		needs = append(needs, keysOf(d.alongSpan(t, 1))...)
 	}
-	for _, t := range []string{geo.TypeDuct, geo.TypeTunnel, geo.TypeAerial, geo.TypeBuried, geo.TypeTray} {
-		k := media.PriceKey{Item: media.RatePull, Name: t}
-		rate, ok := p.Rate(k)
-		if !ok || rate <= 0 {
-			missing = append(missing, k.Path())
-			continue
-		}
-		m.labourPerM[t] = int64(math.Round(float64(hour) / rate))
-	}
-	if d.Innerduct() {
-		k := media.PriceKey{Item: media.PriceInnerduct}
-		if m.innerductPerM, ok = p.Price(k); !ok {
-			missing = append(missing, k.Path())
-		}
-	}
-	if len(missing) > 0 {
-		return nil, fmt.Errorf("%s: %w: %v", p.File, media.ErrMissingPrice, missing)
+	if err := p.Check(needs); err != nil {
+		return nil, err
 	}
 	return m, nil
+}
+
+// The route-dependent items. Each function lists, as bill quantities, what one priced thing
+// of a route takes; the bill of materials (Result.quantities) adds them up into its lines and
+// the optimizer's problem (Site.problem, Site.demand) prices them one span or one demand at a
+// time with media.PriceBook.Cents. So a price, a rate or a design option moves the
+// optimizer's costs and the bill together.
+
+var labourHour = media.PriceKey{Item: media.PriceLabourHour}
+
+// pathwayTypes are the pathway types in a fixed order, and pullItems the bill items of
+// pulling cable in each.
+var (
+	pathwayTypes = [...]string{geo.TypeAerial, geo.TypeBuried, geo.TypeDuct, geo.TypeTray, geo.TypeTunnel}
+	pullItems    = func() (m [len(pathwayTypes)]string) {
+		for i, t := range pathwayTypes {
+			m[i] = "pull cable in " + t
+		}
+		return m
+	}()
+)
+
+// pullItem is pulling metres of one cable in a pathway of type typ.
+func pullItem(typ string, metres float64) media.Quantity {
+	item := "pull cable in " + typ
+	if i := slices.Index(pathwayTypes[:], typ); i >= 0 {
+		item = pullItems[i]
+	}
+	return media.Quantity{Category: media.CategoryLabour, Item: item, Unit: media.UnitM, Amount: metres,
+		Price: labourHour, Rate: media.PriceKey{Item: media.RatePull, Name: typ}}
+}
+
+// alongSpan is what one cable takes along metres of a span of type typ besides the cable
+// itself: its pull, and in a duct with the design's innerduct, one innerduct for it and the
+// pull that places the innerduct.
+func (d Design) alongSpan(typ string, metres float64) []media.Quantity {
+	q := []media.Quantity{pullItem(typ, metres)}
+	if typ == geo.TypeDuct && d.Innerduct() {
+		q = append(q,
+			media.Quantity{Category: media.CategoryMaterial, Item: fmt.Sprintf("innerduct %g/%g mm", d.InnerductODMM, d.InnerductIDMM),
+				Unit: media.UnitM, Amount: metres, Price: media.PriceKey{Item: media.PriceInnerduct}},
+			media.Quantity{Category: media.CategoryLabour, Item: "place innerduct in duct", Unit: media.UnitM, Amount: metres,
+				Price: labourHour, Rate: media.PriceKey{Item: media.RatePull, Name: geo.TypeDuct}})
+	}
+	return q
+}
+
+// legEnds is what one cable takes at the ends of a leg besides the cable: risers, service
+// coils and entrance loops (coilsM) pulled in tray, laterals pulled buried.
+func legEnds(riserM, coilsM, lateralM float64) []media.Quantity {
+	return []media.Quantity{pullItem(geo.TypeTray, riserM+coilsM), pullItem(geo.TypeBuried, lateralM)}
+}
+
+// structureLoops is what one cable's slack loops of metres at structures take besides the
+// cable: they are pulled as duct.
+func structureLoops(metres float64) []media.Quantity {
+	return []media.Quantity{pullItem(geo.TypeDuct, metres)}
+}
+
+// cableItem is metres of one cable of medium on construction k in size count (4-pair copper
+// when !fibre).
+func cableItem(medium, k string, count int, fibre bool, metres float64) media.Quantity {
+	item := fmt.Sprintf("cable %s %s, %d strands", medium, k, count)
+	if !fibre {
+		item = fmt.Sprintf("cable %s %s, 4-pair", medium, k)
+	}
+	return media.Quantity{Category: media.CategoryMaterial, Item: item, Unit: media.UnitM, Amount: metres,
+		Price: media.PriceKey{Item: media.PriceCable, Medium: medium, Construction: k, Count: count}}
+}
+
+// trench is new trench of metres on a surface, with its restoration.
+func trench(surface string, metres float64) []media.Quantity {
+	return []media.Quantity{
+		{Category: media.CategoryConstruction, Item: "trench, " + surface, Unit: media.UnitM, Amount: metres,
+			Price: media.PriceKey{Item: media.PriceTrench, Name: surface}},
+		{Category: media.CategoryConstruction, Item: "restoration, " + surface, Unit: media.UnitM, Amount: metres,
+			Price: media.PriceKey{Item: media.PriceRestoration, Name: surface}}}
+}
+
+// bore is metres of directional bore.
+func bore(metres float64) media.Quantity {
+	return media.Quantity{Category: media.CategoryConstruction, Item: "directional bore", Unit: media.UnitM, Amount: metres,
+		Price: media.PriceKey{Item: media.PriceBore}}
+}
+
+// newWork is new civil work along metres of a span: a bore when its method is bore, else
+// trench and restoration of its surface.
+func newWork(sp *geo.Span, metres float64) []media.Quantity {
+	if sp.Method == geo.MethodBore {
+		return []media.Quantity{bore(metres)}
+	}
+	return trench(surfaceOf(sp), metres)
+}
+
+// addedDuct is metres of duct laid in new work.
+func addedDuct(metres float64) media.Quantity {
+	return media.Quantity{Category: media.CategoryConstruction, Item: "added duct", Unit: media.UnitM, Amount: metres,
+		Price: media.PriceKey{Item: media.PriceAddedDuct}}
+}
+
+// joinHandholes is n handholes where new pathway joins the network.
+func joinHandholes(n int) media.Quantity {
+	return media.Quantity{Category: media.CategoryConstruction, Item: "handhole where new pathway joins the network",
+		Unit: media.UnitEach, Amount: float64(n), Price: media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole}}
+}
+
+// opening is what opening a proposed span takes: its new work, a duct when it is a duct, and
+// a handhole at each end that is a junction without a structure (see Site.joinsNetwork).
+func (s *Site) opening(sp *geo.Span) []media.Quantity {
+	q := newWork(sp, sp.LengthM)
+	if sp.Type == geo.TypeDuct {
+		q = append(q, addedDuct(sp.LengthM))
+	}
+	n := 0
+	for _, j := range []string{sp.From, sp.To} {
+		if s.joinsNetwork(j) {
+			n++
+		}
+	}
+	if n > 0 {
+		q = append(q, joinHandholes(n))
+	}
+	return q
+}
+
+// joinsNetwork reports whether an opened span ending at junction j gets a handhole there: j
+// is a junction without a structure that is not a building's access point (common practice,
+// no published source).
+func (s *Site) joinsNetwork(j string) bool {
+	jn, ok := s.Net.Junction(j)
+	if !ok || jn.Kind != geo.JunctionNode {
+		return false
+	}
+	for _, a := range s.Net.Access {
+		if a.Junction == j {
+			return false
+		}
+	}
+	return true
 }
 
 // surfaceOf is the surface priced for new work on a span: its own, else turf.
@@ -214,27 +325,49 @@ func surfaceOf(sp *geo.Span) string {
 	return geo.SurfaceTurf
 }
 
-// newWorkPerMCents is the price of new work along a span, per metre: a directional bore when
-// the span's method is bore (no open trench, no restoration), else trench with restoration of
-// the span's surface.
-func (m *costModel) newWorkPerMCents(sp *geo.Span) (int64, error) {
-	if sp.Method == geo.MethodBore {
-		k := media.PriceKey{Item: media.PriceBore}
-		b, ok := m.prices.Price(k)
-		if !ok {
-			return 0, fmt.Errorf("%s: %w: %s", m.prices.File, media.ErrMissingPrice, k.Path())
+// keysOf lists the prices and rates quantities need.
+func keysOf(qs []media.Quantity) []media.PriceKey {
+	var keys []media.PriceKey
+	for _, q := range qs {
+		keys = append(keys, q.Price)
+		if q.Rate.Item != "" {
+			keys = append(keys, q.Rate)
 		}
-		return b, nil
 	}
-	s := surfaceOf(sp)
-	t, ok1 := m.prices.Price(media.PriceKey{Item: media.PriceTrench, Name: s})
-	r, ok2 := m.prices.Price(media.PriceKey{Item: media.PriceRestoration, Name: s})
-	if !ok1 || !ok2 {
-		return 0, fmt.Errorf("%s: %w: %s and %s", m.prices.File, media.ErrMissingPrice,
-			media.PriceKey{Item: media.PriceTrench, Name: s}.Path(), media.PriceKey{Item: media.PriceRestoration, Name: s}.Path())
-	}
-	return t + r, nil
+	return keys
 }
+
+// cents prices quantities one by one (media.PriceBook.Cents) and sums them.
+func (m *costModel) cents(qs ...media.Quantity) int64 {
+	var c int64
+	for _, q := range qs {
+		c += m.prices.Cents(q)
+	}
+	return c
+}
+
+// perM is the price of quantities given per metre, in whole cents per metre (every money
+// price in a book is whole cents, so for material and construction this is exact).
+func (m *costModel) perM(qs ...media.Quantity) int64 {
+	var c float64
+	for _, q := range qs {
+		u, _ := m.prices.UnitCents(q)
+		c += u * q.Amount
+	}
+	return int64(math.Round(c))
+}
+
+// loopM is the slack loop one cable leaves at junction id: design.slack_loop_structure_m at a
+// maintenance hole or handhole, else none.
+func (s *Site) loopM(d Design, id string) float64 {
+	if s.loopStructure(id) {
+		return d.SlackLoopStructureM
+	}
+	return 0
+}
+
+// wasted is metres of cable with the design's waste.
+func (d Design) wasted(metres float64) float64 { return metres * (1 + d.WastePct/100) }
 
 // problem builds the optimizer's problem: one edge per span (same index), one demand per link.
 func (s *Site) problem(m *costModel, links []Link) (*optimize.Problem, []demandInfo, error) {
@@ -266,34 +399,35 @@ func (s *Site) problem(m *costModel, links []Link) (*optimize.Problem, []demandI
 		// the flags above firstClassFlag.
 		m.classBit[c] = firstClassFlag << k
 	}
-	addDuct, _ := m.prices.Price(media.PriceKey{Item: media.PriceAddedDuct})
 	p := &optimize.Problem{Nodes: len(net.Junctions), AllowNew: m.design.AllowNewTrench,
 		Edges: make([]optimize.Edge, len(net.Spans))}
+	d := m.design
 	// Duct fill: the optimizer's incremental NFPA 70 Chapter 9 Table 1 packing (nil Fits).
 	for i := range net.Spans {
 		sp := &net.Spans[i]
 		u, _ := s.Graph.NodeOf(sp.From)
 		v, _ := s.Graph.NodeOf(sp.To)
-		e := optimize.Edge{ID: sp.ID, From: int(u), To: int(v), LengthM: sp.LengthM,
-			LabourPerMCents: m.labourPerM[sp.Type], Group: groups[sp.Group], Flags: m.classBit[classOf(sp)]}
+		// Half the slack loop at each end's structure: a route passing a structure crosses two
+		// of its spans; the halves at a route's two ends are its demand's (demand).
+		loops := (s.loopM(d, sp.From) + s.loopM(d, sp.To)) / 2
+		e := optimize.Edge{ID: sp.ID, From: int(u), To: int(v), LengthM: sp.LengthM, CableM: d.wasted(sp.LengthM + loops),
+			PerCableCents: m.cents(d.alongSpan(sp.Type, sp.LengthM)...) + m.cents(structureLoops(loops)...),
+			Group:         groups[sp.Group], Flags: m.classBit[classOf(sp)]}
 		if sp.Type == geo.TypeDuct {
 			e.Flags |= flagDuct
-			e.LabourPerMCents += m.ductPerCablePerM()
 		}
-		work, err := m.newWorkPerMCents(sp)
 		if sp.Status == geo.StatusProposed {
-			if err != nil {
+			open := s.opening(sp)
+			if err := m.prices.Check(keysOf(open)); err != nil {
 				return nil, nil, err
 			}
-			perM := work
-			if sp.Type == geo.TypeDuct {
-				perM += addDuct
-			}
-			e.Proposed, e.FixedCents = true, media.MulCents(perM, sp.LengthM)
+			e.Proposed, e.FixedCents = true, m.cents(open...)
 		} else if sp.Type == geo.TypeDuct {
 			e.Ducts, e.DuctIDMM = sp.SpareDucts, sp.DuctMM
-			if err == nil && addDuct > 0 {
-				e.AddDuctPerMCents = work + addDuct
+			// One trench or bore beside the span however many ducts it gets, and the ducts.
+			work := newWork(sp, 1)
+			if m.prices.Check(keysOf(append(work, addedDuct(1)))) == nil && m.perM(addedDuct(1)) > 0 {
+				e.AddDuctPerMCents, e.AddTrenchPerMCents = m.perM(addedDuct(1)), m.perM(work...)
 			}
 		}
 		p.Edges[i] = e
@@ -330,11 +464,16 @@ func (s *Site) demand(m *costModel, l *Link) (optimize.Demand, demandInfo) {
 	strands := CableStrands(l.Strands, l.Growth)
 	riser := s.building[l.To].RiserM + s.building[l.From].RiserM
 	lateral := src.LateralM + dst.LateralM
-	slack := 2 * m.design.SlackM
+	d := m.design
+	slack := 2 * d.SlackM
+	coils := slack + 2*d.SlackLoopEntranceM
+	endLoops := (s.loopM(d, src.Junction) + s.loopM(d, dst.Junction)) / 2
+	ends := riser + lateral + coils + endLoops
+	endItems := append(legEnds(riser, coils, lateral), structureLoops(endLoops)...)
 	facts := media.Link{ID: l.ID, RiserM: riser, SlackM: slack, RateGbps: rate, FutureRateGbps: future,
 		MaxEMI: geo.EMINone, ConnectorPairs: ConnectorPairs, Strands: strands}
 	info := demandInfo{facts: facts, rate: rate, strands: strands, constM: riser + lateral + slack}
-	d := optimize.Demand{ID: l.ID, Source: int(srcN), Target: int(dstN), Diverse: l.Diverse}
+	dm := optimize.Demand{ID: l.ID, Source: int(srcN), Target: int(dstN), Diverse: l.Diverse}
 	for _, med := range m.eng.Media() {
 		mm := m.eng.Catalog().Medium(med)
 		if lateral > 0 && !m.allowed(med, rate, future, strands, lateralClass) {
@@ -349,7 +488,7 @@ func (s *Site) demand(m *costModel, l *Link) (optimize.Demand, demandInfo) {
 		}
 		maxCh := m.eng.MaxChannelM(med, rate, future, facts)
 		maxRoute := maxCh - riser - slack - lateral
-		perM := m.eng.CablePerMCents(med, strands, true)
+		perM := m.cableFor(med, rate, facts, coils+2*endLoops)
 		fixed := m.eng.FixedCents(med, rate, strands)
 		switch {
 		case perM < 0 || fixed < 0:
@@ -359,23 +498,49 @@ func (s *Site) demand(m *costModel, l *Link) (optimize.Demand, demandInfo) {
 			info.excluded = append(info.excluded, fmt.Sprintf("%s: reaches at most %.1f m of channel; risers, slack and laterals alone take %.1f m", med, maxCh, riser+slack+lateral))
 			continue
 		}
-		// Route-independent lengths (risers, laterals, slack) cost the same whatever the path.
-		fixed += media.MulCents(perM, riser+lateral+slack) + media.MulCents(m.labourPerM[geo.TypeTray], riser) +
-			media.MulCents(m.labourPerM[geo.TypeBuried], lateral)
+		// What the leg takes whatever its path: the cable of its risers, laterals, service coils,
+		// entrance loops and the halves of the structure loops at its ends that its spans leave
+		// out (problem), with waste, and their pulls; a diverse link pays them again for its
+		// second leg, when it gets one.
+		fixed += media.MulCents(perM, d.wasted(ends)) + m.cents(endItems...)
+		second := int64(0)
+		if l.Diverse {
+			second = fixed
+		}
 		od := cableOD(mm, strands)
-		if m.design.Innerduct() {
-			if !m.design.innerductFits(od) {
+		if d.Innerduct() {
+			if !d.innerductFits(od) {
 				exclude |= flagDuct
 				info.excluded = append(info.excluded, fmt.Sprintf("%s: its %g mm cable does not fit the %g mm innerduct (53 %% fill, NFPA 70 Chapter 9 Table 1), so it is kept off ducts",
-					med, od, m.design.InnerductIDMM))
+					med, od, d.InnerductIDMM))
 			}
-			od = m.design.InnerductODMM // ducts hold the innerducts
+			od = d.InnerductODMM // ducts hold the innerducts
 		}
-		d.Options = append(d.Options, optimize.Option{Name: med, CablePerMCents: perM, FixedCents: fixed,
+		dm.Options = append(dm.Options, optimize.Option{Name: med, CablePerMCents: perM, FixedCents: fixed, SecondLegCents: second,
 			MaxRouteM: maxRoute, ExcludeFlags: exclude, CableODMM: od})
 		info.options = append(info.options, med)
 	}
-	return d, info
+	return dm, info
+}
+
+// cableKey is what cableFor's answer depends on.
+type cableKey struct {
+	medium                       string
+	rate, future, riserM, slackM float64
+	strands                      int
+}
+
+// cableFor is the cable price per metre the rules let medium run outdoors with the link's
+// risers and slackM of slack (media.Engine.CableFor), remembered per plan.
+func (m *costModel) cableFor(medium string, rate float64, facts media.Link, slackM float64) int64 {
+	k := cableKey{medium, rate, facts.FutureRateGbps, facts.RiserM, slackM, facts.Strands}
+	if v, ok := m.cableMemo[k]; ok {
+		return v
+	}
+	facts.Outdoor, facts.SlackM = true, slackM
+	v := m.eng.CableFor(medium, rate, facts)
+	m.cableMemo[k] = v
+	return v
 }
 
 // cableOD is the outside diameter in millimetres of the outdoor-rated cable of the medium

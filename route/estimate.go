@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 	"strconv"
 
@@ -601,92 +602,101 @@ func (r *Result) construction() {
 	r.Estimate.Construction = c
 }
 
-// quantities lists everything the bill of materials prices.
+// legItems lists what one feasible leg puts on the bill of materials: its cables, entrance
+// transitions, terminations, tests, patch cords, transceivers, reel joins, and the
+// route-dependent items of its spans, ends and structure loops (cost.go), each for all its
+// cables. The bill adds them up; the leg's cost (LegCost) is them priced one by one.
+func (s *Site) legItems(eng *media.Engine, d Design, l *Leg) []media.Quantity {
+	p := eng.PriceBook()
+	qs := make([]media.Quantity, 0, 24)
+	add := func(category, item, unit string, amount float64, price media.PriceKey) {
+		qs = append(qs, media.Quantity{Category: category, Item: item, Unit: unit, Amount: amount, Price: price})
+	}
+	work := func(item, unit string, amount float64, rate media.PriceKey) {
+		qs = append(qs, media.Quantity{Category: media.CategoryLabour, Item: item, Unit: unit, Amount: amount, Price: labourHour, Rate: rate})
+	}
+	times := func(n float64, items ...media.Quantity) {
+		for _, q := range items {
+			q.Amount *= n
+			qs = append(qs, q)
+		}
+	}
+	t := l.Cable
+	n := float64(t.Cables)
+	m := eng.Catalog().Medium(l.Medium)
+	fibre := m != nil && m.Fibre()
+	qs = append(qs, cableItem(l.Medium, l.Construction, t.Size.Count, fibre, t.OutsideLengthM()*n))
+	if l.Inside != "" {
+		// The entrance transitions: inside cable up the risers, and at each entrance an
+		// enclosure per cable with trays for every strand, all spliced through.
+		qs = append(qs, cableItem(l.Medium, l.Inside, t.InsideSize.Count, true, t.InsideLengthM*float64(t.InsideCables)))
+		spliced := t.Size.Count * t.Cables
+		add(media.CategoryMaterial, "entrance transition enclosure", media.UnitEach, 2*n, media.PriceKey{Item: media.PriceTransition})
+		add(media.CategoryMaterial, fmt.Sprintf("splice tray, %d splices", p.TraySplices()), media.UnitEach, float64(2*p.TraysFor(spliced)), media.PriceKey{Item: media.PriceSpliceTray})
+		work("splice fibre, entrance transitions", media.UnitEach, float64(2*spliced), media.PriceKey{Item: media.RateSplice})
+	}
+	ends := float64(2 * t.Terminated)
+	if fibre {
+		add(media.CategoryMaterial, "termination "+l.Medium+", per strand end", media.UnitEach, ends, media.PriceKey{Item: media.PriceTermination, Medium: l.Medium})
+		work("terminate fibre strands", media.UnitEach, ends, media.PriceKey{Item: media.RateTermination})
+		work("loss test fibre strands", media.UnitEach, float64(t.Terminated), media.PriceKey{Item: media.RateLossTest})
+		work("OTDR test fibre strands", media.UnitEach, float64(t.Terminated), media.PriceKey{Item: media.RateOTDRTest})
+	} else {
+		add(media.CategoryMaterial, "termination "+l.Medium+", per 4-pair cable end", media.UnitEach, ends, media.PriceKey{Item: media.PriceTermination, Medium: l.Medium})
+		work("terminate copper cables", media.UnitEach, ends, media.PriceKey{Item: media.RateTermination})
+		work("certify copper channels", media.UnitEach, float64(t.Terminated), media.PriceKey{Item: media.RateLossTest})
+	}
+	if p.Has(media.PricePatchCord) {
+		add(media.CategoryMaterial, "patch cord "+l.Medium, media.UnitEach, 2, media.PriceKey{Item: media.PricePatchCord, Medium: l.Medium})
+	}
+	if a := eng.Catalog().Application(l.Application); a != nil {
+		add(media.CategoryOptics, "transceiver "+a.Transceiver, media.UnitEach, 2, media.PriceKey{Item: media.PriceTransceiver, Name: a.Transceiver})
+	}
+	if t.Joins > 0 {
+		joins := float64(t.Joins) * n
+		add(media.CategoryMaterial, "splice closure, mid-span join", media.UnitEach, joins, media.PriceKey{Item: media.PriceSpliceClosure})
+		add(media.CategoryMaterial, fmt.Sprintf("splice tray, %d splices", p.TraySplices()), media.UnitEach, joins*float64(p.TraysFor(t.Size.Count)), media.PriceKey{Item: media.PriceSpliceTray})
+		work("splice fibre, mid-span joins", media.UnitEach, joins*float64(t.Size.Count), media.PriceKey{Item: media.RateSplice})
+	}
+	// Along the route by pathway type; then risers, coils and entrance loops in tray,
+	// laterals buried, structure loops in duct.
+	var alongM [len(pathwayTypes)]float64
+	for _, st := range l.Steps {
+		sp, _ := s.Net.Span(st.SpanID)
+		alongM[slices.Index(pathwayTypes[:], sp.Type)] += sp.LengthM
+	}
+	for i, m := range alongM {
+		if m > 0 {
+			times(n, d.alongSpan(pathwayTypes[i], m)...)
+		}
+	}
+	times(n, legEnds(l.RiserM, t.EndSlackM+t.EntranceLoopM, l.LateralM)...)
+	times(n, structureLoops(t.StructureLoopM)...)
+	return qs
+}
+
+// quantities lists everything the bill of materials prices, and sets each feasible leg's
+// cost from its items (legCost).
 func (r *Result) quantities() {
 	e := r.Estimate
 	p := r.Engine.PriceBook()
-	cat := r.Engine.Catalog()
-	e.Quantities = make([]media.Quantity, 0, 16*len(r.Legs)+8*len(e.Buildings)+8)
+	e.Quantities = make([]media.Quantity, 0, 20*len(r.Legs)+8*len(e.Buildings)+8)
 	add := func(category, item, unit string, amount float64, price media.PriceKey) {
 		e.Quantities = append(e.Quantities, media.Quantity{Category: category, Item: item, Unit: unit, Amount: amount, Price: price})
 	}
-	hour := media.PriceKey{Item: media.PriceLabourHour}
-	work := func(item, unit string, amount float64, rate media.PriceKey) {
-		e.Quantities = append(e.Quantities, media.Quantity{Category: media.CategoryLabour, Item: item, Unit: unit,
-			Amount: amount, Price: hour, Rate: rate})
+	var design Design
+	if r.Plan != nil {
+		design = r.Plan.Design
 	}
-	cords := p.Has(media.PricePatchCord)
-	pulled := map[string]float64{}
-	innerductM := 0.0
-	pull := func(t string, m float64) { pulled[t] += m }
 	for i := range r.Legs {
-		l := &r.Legs[i]
-		if !l.Feasible {
-			continue
+		if l := &r.Legs[i]; l.Feasible {
+			items := r.Site.legItems(r.Engine, design, l)
+			// The leg's cost: its items priced one by one, and its share of new construction.
+			c := legCost(p, items)
+			c.ConstructionCents += l.Cost.ConstructionCents
+			l.Cost = c
+			e.Quantities = append(e.Quantities, items...)
 		}
-		t := l.Cable
-		n := float64(t.Cables)
-		fibre := r.fibre(l)
-		item := fmt.Sprintf("cable %s %s, %d strands", l.Medium, l.Construction, t.Size.Count)
-		if !fibre {
-			item = fmt.Sprintf("cable %s %s, 4-pair", l.Medium, l.Construction)
-		}
-		add(media.CategoryMaterial, item, media.UnitM, t.OutsideLengthM()*n,
-			media.PriceKey{Item: media.PriceCable, Medium: l.Medium, Construction: l.Construction, Count: t.Size.Count})
-		if l.Inside != "" {
-			// The entrance transitions: inside cable up the risers, and at each entrance an
-			// enclosure per cable with trays for every strand, all spliced through.
-			add(media.CategoryMaterial, fmt.Sprintf("cable %s %s, %d strands", l.Medium, l.Inside, t.InsideSize.Count), media.UnitM,
-				t.InsideLengthM*float64(t.InsideCables), media.PriceKey{Item: media.PriceCable, Medium: l.Medium, Construction: l.Inside, Count: t.InsideSize.Count})
-			spliced := t.Size.Count * t.Cables
-			add(media.CategoryMaterial, "entrance transition enclosure", media.UnitEach, 2*n, media.PriceKey{Item: media.PriceTransition})
-			add(media.CategoryMaterial, fmt.Sprintf("splice tray, %d splices", p.TraySplices()), media.UnitEach, float64(2*p.TraysFor(spliced)), media.PriceKey{Item: media.PriceSpliceTray})
-			work("splice fibre, entrance transitions", media.UnitEach, float64(2*spliced), media.PriceKey{Item: media.RateSplice})
-		}
-		ends := float64(2 * t.Terminated)
-		if fibre {
-			add(media.CategoryMaterial, "termination "+l.Medium+", per strand end", media.UnitEach, ends, media.PriceKey{Item: media.PriceTermination, Medium: l.Medium})
-			work("terminate fibre strands", media.UnitEach, ends, media.PriceKey{Item: media.RateTermination})
-			work("loss test fibre strands", media.UnitEach, float64(t.Terminated), media.PriceKey{Item: media.RateLossTest})
-			work("OTDR test fibre strands", media.UnitEach, float64(t.Terminated), media.PriceKey{Item: media.RateOTDRTest})
-		} else {
-			add(media.CategoryMaterial, "termination "+l.Medium+", per 4-pair cable end", media.UnitEach, ends, media.PriceKey{Item: media.PriceTermination, Medium: l.Medium})
-			work("terminate copper cables", media.UnitEach, ends, media.PriceKey{Item: media.RateTermination})
-			work("certify copper channels", media.UnitEach, float64(t.Terminated), media.PriceKey{Item: media.RateLossTest})
-		}
-		if cords {
-			add(media.CategoryMaterial, "patch cord "+l.Medium, media.UnitEach, 2, media.PriceKey{Item: media.PricePatchCord, Medium: l.Medium})
-		}
-		if a := cat.Application(l.Application); a != nil {
-			add(media.CategoryOptics, "transceiver "+a.Transceiver, media.UnitEach, 2, media.PriceKey{Item: media.PriceTransceiver, Name: a.Transceiver})
-		}
-		if t.Joins > 0 {
-			joins := float64(t.Joins) * n
-			add(media.CategoryMaterial, "splice closure, mid-span join", media.UnitEach, joins, media.PriceKey{Item: media.PriceSpliceClosure})
-			add(media.CategoryMaterial, fmt.Sprintf("splice tray, %d splices", p.TraySplices()), media.UnitEach, joins*float64(p.TraysFor(t.Size.Count)), media.PriceKey{Item: media.PriceSpliceTray})
-			work("splice fibre, mid-span joins", media.UnitEach, joins*float64(t.Size.Count), media.PriceKey{Item: media.RateSplice})
-		}
-		// Metres pulled by pathway type: spans by their type, risers, coils and entrance
-		// loops in tray, laterals buried, structure loops in duct.
-		for _, st := range l.Steps {
-			sp, _ := r.Site.Net.Span(st.SpanID)
-			pull(sp.Type, sp.LengthM*n)
-			if sp.Type == geo.TypeDuct {
-				innerductM += sp.LengthM * n
-			}
-		}
-		pull(geo.TypeTray, (l.RiserM+t.EndSlackM+t.EntranceLoopM)*n)
-		pull(geo.TypeBuried, l.LateralM*n)
-		pull(geo.TypeDuct, t.StructureLoopM*n)
-	}
-	for _, t := range sortedKeys(pulled) {
-		work("pull cable in "+t, media.UnitM, pulled[t], media.PriceKey{Item: media.RatePull, Name: t})
-	}
-	if d := r.Plan.Design; d.Innerduct() {
-		// One innerduct per cable along every duct span, placed by a pull of its own; it runs
-		// through the structures, where the cable's slack loops lie outside it.
-		add(media.CategoryMaterial, fmt.Sprintf("innerduct %g/%g mm", d.InnerductODMM, d.InnerductIDMM), media.UnitM, innerductM, media.PriceKey{Item: media.PriceInnerduct})
-		work("place innerduct in duct", media.UnitM, innerductM, media.PriceKey{Item: media.RatePull, Name: geo.TypeDuct})
 	}
 	for _, c := range e.Buildings {
 		for _, size := range sortedKeys(c.AdapterPanels) {
@@ -713,16 +723,14 @@ func (r *Result) quantities() {
 	}
 	con := e.Construction
 	for _, sf := range sortedKeys(con.TrenchM) {
-		add(media.CategoryConstruction, "trench, "+sf, media.UnitM, con.TrenchM[sf], media.PriceKey{Item: media.PriceTrench, Name: sf})
-		add(media.CategoryConstruction, "restoration, "+sf, media.UnitM, con.TrenchM[sf], media.PriceKey{Item: media.PriceRestoration, Name: sf})
+		e.Quantities = append(e.Quantities, trench(sf, con.TrenchM[sf])...)
 	}
 	if con.BoreM > 0 { // a price book without bores stays valid while no plan bores
-		add(media.CategoryConstruction, "directional bore", media.UnitM, con.BoreM, media.PriceKey{Item: media.PriceBore})
+		e.Quantities = append(e.Quantities, bore(con.BoreM))
 	}
-	add(media.CategoryConstruction, "added duct", media.UnitM, con.AddedDuctM, media.PriceKey{Item: media.PriceAddedDuct})
-	hh := media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole}
-	add(media.CategoryConstruction, "handhole where new pathway joins the network", media.UnitEach, float64(len(con.NewJunctions)), hh)
-	add(media.CategoryConstruction, "handhole for an added pull point", media.UnitEach, float64(e.AddedPullPoints), hh)
+	e.Quantities = append(e.Quantities, addedDuct(con.AddedDuctM), joinHandholes(len(con.NewJunctions)))
+	add(media.CategoryConstruction, "handhole for an added pull point", media.UnitEach, float64(e.AddedPullPoints),
+		media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole})
 }
 
 func sortedKeys[K int | string, V any](m map[K]V) []K {

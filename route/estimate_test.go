@@ -888,7 +888,8 @@ func TestConstructionBore(t *testing.T) {
 // of a 50 mm duct is within 53 %, two at 82 % are over 31 %), so where B's and C's routes share
 // D a duct is added; the bill adds the innerduct along every duct span and its placing pull,
 // and the legs' costs carry them at the demo book's 2.40 per metre and 92.00 per hour at 60 m
-// per hour. A cable too large for the innerduct is kept off ducts.
+// per hour, over the leg's duct metres (media.PriceBook.Cents). A cable too large for the
+// innerduct is kept off ducts.
 func TestInnerduct(t *testing.T) {
 	t.Parallel()
 	plain, err := pullSolve(t, 50, 1, nil)
@@ -938,11 +939,12 @@ func TestInnerduct(t *testing.T) {
 			}
 		}
 		ductM += m
-		if got, want := li.Cost.LabourCents-lp.Cost.LabourCents, media.MulCents(153, m); got != want {
-			t.Errorf("%s: innerduct placing labour %d cents, want %d (1.53 per metre over %.1f m)", name, got, want, m)
+		labour, material := int64(math.Round(m*9200/60)), media.MulCents(240, m)
+		if got, want := li.Cost.LabourCents-lp.Cost.LabourCents, labour; got != want {
+			t.Errorf("%s: innerduct placing labour %d cents, want %d (92.00 per hour at 60 m per hour over %.1f m)", name, got, want, m)
 		}
 		if name == "A-B" { // A-C shares an added duct, so its construction share moves too
-			if got, want := li.Cost.ConstructionCents-lp.Cost.ConstructionCents, media.MulCents(240, m); got != want {
+			if got, want := li.Cost.ConstructionCents-lp.Cost.ConstructionCents, material; got != want {
 				t.Errorf("%s: innerduct material %d cents, want %d (2.40 per metre over %.1f m)", name, got, want, m)
 			}
 		}

@@ -294,9 +294,9 @@ type Summary struct {
 	// OverBudgetCents is total minus budget: positive over, negative under; 0 without a budget.
 	OverBudgetCents int64   `json:"over_budget_cents"`
 	OverBudgetPct   float64 `json:"over_budget_pct"`
-	// ModelCents is the optimizer's cost model summed over the legs (cable, labour along
-	// the route, construction shares, terminations and transceivers; no markups): what the
-	// routes were chosen by, not a price.
+	// ModelCents is the legs' costs summed (each leg's bill items priced one by one, its
+	// share of new trench and added duct; no building panels or enclosures, no markups): the
+	// cost model the routes were chosen by (README, "One cost model"), not a price.
 	ModelCents       int64            `json:"model_cents"`
 	CostByCategory   map[string]int64 `json:"cost_by_category_cents"` // BOM subtotals: material, labour, construction, optics
 	SubtotalCents    int64            `json:"subtotal_cents"`

@@ -50,12 +50,13 @@ type Leg struct {
 	Cost LegCost
 }
 
-// LegCost breaks down what one leg costs, in integer cents of the price book's currency.
+// LegCost breaks down what one leg costs, in integer cents of the price book's currency: its
+// bill items (legItems) priced one by one, and its share of new construction.
 type LegCost struct {
-	CableCents        int64 // cable material
-	LabourCents       int64 // installation labour along the route
-	ConstructionCents int64 // this leg's share of new trench it opens, and of added duct
-	OpticsCents       int64 // terminations and transceivers
+	CableCents        int64 // cable material, entrance transitions and reel joins
+	LabourCents       int64 // installation labour: pulls, splicing, terminating, testing
+	ConstructionCents int64 // innerduct, and this leg's share of new trench it opens and of added duct
+	OpticsCents       int64 // terminations, patch cords and transceivers
 }
 
 // TotalCents is the sum of the breakdown.
@@ -80,6 +81,9 @@ type Result struct {
 	Engine *media.Engine // the engine that chose the media
 	Opened []string      // proposed spans the plan builds, by span ID
 	Fill   []SegmentFill // duct fill of every span that carries cable, by span ID
+	// ObjectiveCents is the optimizer's objective for the routes it returned
+	// (optimize.Solution.TotalCents): see the README's "One cost model".
+	ObjectiveCents int64
 
 	// Estimate is the installation takeoff and priced bill of materials (see Estimate).
 	Estimate *Estimate
@@ -225,6 +229,7 @@ func SolveWith(ctx context.Context, s *Site, p *Plan, eng *media.Engine) (*Resul
 	for _, w := range s.Net.Warnings {
 		r.Warnings = append(r.Warnings, w.File+": "+w.Feature+": "+w.Message)
 	}
+	r.ObjectiveCents = sol.TotalCents
 	for _, e := range sol.Opened {
 		r.Opened = append(r.Opened, s.Net.Spans[e].ID)
 	}
@@ -283,8 +288,8 @@ func (s *Site) legsOf(cm *costModel, prob *optimize.Problem, rt *optimize.Route,
 	return legs
 }
 
-// fillLeg sets a leg's route, its medium from the rule engine on the route's own facts, and
-// its cable, labour and optics costs.
+// fillLeg sets a leg's route and its medium from the rule engine on the route's own facts;
+// the estimate prices it (Result.quantities).
 func (s *Site) fillLeg(cm *costModel, prob *optimize.Problem, leg *Leg, ol optimize.Leg, medium string, info demandInfo) {
 	leg.RouteM = leg.LateralM
 	emi := geo.EMINone
@@ -292,16 +297,10 @@ func (s *Site) fillLeg(cm *costModel, prob *optimize.Problem, leg *Leg, ol optim
 	plenum := false
 	types := map[string]bool{}
 	seen := map[string]bool{}
-	var labour int64
-	ductM := 0.0
 	for _, h := range ol.Hops {
 		sp := &s.Net.Spans[h.Edge]
 		leg.Steps = append(leg.Steps, geo.Step{SpanID: sp.ID, Reverse: !h.Forward})
 		leg.RouteM += sp.LengthM
-		labour += media.MulCents(cm.labourPerM[sp.Type], sp.LengthM)
-		if sp.Type == geo.TypeDuct {
-			ductM += sp.LengthM
-		}
 		if !seen[sp.PathwayID] {
 			seen[sp.PathwayID] = true
 			leg.Pathways = append(leg.Pathways, sp.PathwayID)
@@ -315,7 +314,6 @@ func (s *Site) fillLeg(cm *costModel, prob *optimize.Problem, leg *Leg, ol optim
 			emi = sp.EMI
 		}
 	}
-	labour += media.MulCents(cm.labourPerM[geo.TypeTray], leg.RiserM) + media.MulCents(cm.labourPerM[geo.TypeBuried], leg.LateralM)
 	facts := info.facts
 	facts.RouteM = leg.RouteM
 	facts.MaxEMI = emi
@@ -343,14 +341,27 @@ func (s *Site) fillLeg(cm *costModel, prob *optimize.Problem, leg *Leg, ol optim
 	if ch.Medium != medium {
 		leg.Choice += fmt.Sprintf(" (the optimizer routed it for %s)", medium)
 	}
-	leg.Cost.CableCents = ch.CableCents
-	leg.Cost.OpticsCents = ch.CostCents - ch.CableCents - ch.LabourCents
-	leg.Cost.LabourCents = labour + ch.LabourCents
-	if cm.design.Innerduct() {
-		// The leg's innerduct along its duct spans, and the pull that places it.
-		leg.Cost.ConstructionCents += media.MulCents(cm.innerductPerM, ductM)
-		leg.Cost.LabourCents += media.MulCents(cm.labourPerM[geo.TypeDuct], ductM)
+}
+
+// legCost prices a leg's bill items one by one (media.PriceBook.Cents) into its breakdown:
+// cables, transitions and reel joins as cable; terminations, patch cords and transceivers
+// as optics; labour; innerduct as construction.
+func legCost(p *media.PriceBook, qs []media.Quantity) LegCost {
+	var c LegCost
+	for _, q := range qs {
+		x := p.Cents(q)
+		switch {
+		case q.Category == media.CategoryLabour:
+			c.LabourCents += x
+		case q.Category == media.CategoryOptics, q.Price.Item == media.PriceTermination, q.Price.Item == media.PricePatchCord:
+			c.OpticsCents += x
+		case q.Price.Item == media.PriceInnerduct, q.Category == media.CategoryConstruction:
+			c.ConstructionCents += x
+		default:
+			c.CableCents += x
+		}
 	}
+	return c
 }
 
 var emiRank = map[string]int{geo.EMINone: 0, geo.EMILow: 1, geo.EMIHigh: 2}

@@ -112,6 +112,50 @@ func TestCapacity(t *testing.T) {
 	}
 }
 
+// TestAddedDuctTrenchOnce checks that the trench beside a full duct bank is paid once however
+// many ducts it takes (one trench holds several ducts: common practice, no published source):
+// three 36 mm cables with no spare duct take three added 50 mm ducts (NFPA 70 Chapter 9
+// Table 1: 53 % of a 50 mm duct holds one 36 mm cable), 3 × 50 m × 10.00 plus 50 m × 20.00
+// once, 2500.00, cheaper than the long way round (200 m more each at 8.00 a metre, 3 ×
+// 1600.00); a trench per duct would have charged 4500.00.
+func TestAddedDuctTrenchOnce(t *testing.T) {
+	t.Parallel()
+	edges := capNet(0, 1000)
+	edges[0].AddTrenchPerMCents = 2000
+	p := &Problem{Nodes: 4, Edges: edges, Demands: capDemands(3, 36)}
+	sol, err := Solve(p, Settings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	verify(t, "trench once", p, sol)
+	var ducts int64
+	for _, r := range sol.Routes {
+		ducts += r.Cost.AddedDuctCents
+	}
+	if want := int64(3*50*1000 + 50*2000); ducts != want {
+		t.Errorf("added-duct cents %d, want %d (three ducts, one trench)", ducts, want)
+	}
+}
+
+// TestCableMetresAndPerCableCents checks the two per-edge cost fields a caller prices itself:
+// an option pays its cable over CableM, not LengthM, and every cable pays PerCableCents, on
+// top of labour per metre (the package documentation's cost, computed by hand).
+func TestCableMetresAndPerCableCents(t *testing.T) {
+	t.Parallel()
+	p := &Problem{Nodes: 2, Edges: []Edge{{ID: "e", From: 0, To: 1, LengthM: 100, CableM: 107.5, LabourPerMCents: 50, PerCableCents: 1234}},
+		Demands: []Demand{{ID: "d", Source: 0, Target: 1, Options: []Option{{Name: "os2", CablePerMCents: 231, FixedCents: 999, MaxRouteM: 100}}}}}
+	sol, err := Solve(p, Settings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	verify(t, "cable metres", p, sol)
+	// 107.5 m × 2.31 = 248.33 (rounded), 100 m × 0.50 = 50.00, 12.34, 9.99; the reach counts
+	// the 100 m of the edge, within 100 m.
+	if want := int64(24833 + 5000 + 1234 + 999); sol.TotalCents != want {
+		t.Errorf("total %d cents, want %d", sol.TotalCents, want)
+	}
+}
+
 // TestFillReport checks the NFPA areas of the fill report: two 20 mm cables in a 100 mm duct
 // use 2 × 314.16 mm² against 31 % of 7853.98 mm² = 2434.73 mm² (computed).
 func TestFillReport(t *testing.T) {

@@ -71,8 +71,12 @@ func verifyErr(p *Problem, sol *Solution) error {
 				}
 				v = to
 				lm += e.LengthM
-				b.CableCents += int64(math.Round(e.LengthM * float64(op.CablePerMCents)))
-				b.LabourCents += int64(math.Round(e.LengthM * float64(e.LabourPerMCents)))
+				cableM := e.CableM
+				if cableM == 0 {
+					cableM = e.LengthM
+				}
+				b.CableCents += int64(math.Round(cableM * float64(op.CablePerMCents)))
+				b.LabourCents += int64(math.Round(e.LengthM*float64(e.LabourPerMCents))) + e.PerCableCents
 				users[h.Edge] = append(users[h.Edge], d)
 			}
 			if v != dm.Target {
@@ -92,6 +96,9 @@ func verifyErr(p *Problem, sol *Solution) error {
 			}
 		}
 		b.FixedCents = op.FixedCents
+		if len(legs) == 2 {
+			b.FixedCents += op.SecondLegCents
+		}
 		r.Cost.ConstructionShareCents, r.Cost.AddedDuctCents = 0, 0
 		if b != r.Cost {
 			return fmt.Errorf("demand %d: breakdown %+v, recomputed %+v", d, r.Cost, b)
@@ -136,6 +143,9 @@ func verifyErr(p *Problem, sol *Solution) error {
 			return fmt.Errorf("edge %d: fill says %d cables, routes put %d", f.Edge, f.Cables, len(users[f.Edge]))
 		}
 		wantDucts += int64(f.AddedDucts) * int64(math.Round(p.Edges[f.Edge].LengthM*float64(p.Edges[f.Edge].AddDuctPerMCents)))
+		if f.AddedDucts > 0 {
+			wantDucts += int64(math.Round(p.Edges[f.Edge].LengthM * float64(p.Edges[f.Edge].AddTrenchPerMCents)))
+		}
 		if f.Limited && f.UsedAreaMM2 > f.AllowedAreaMM2+1e-6 && f.AddedDucts == 0 && p.Fits == nil {
 			return fmt.Errorf("edge %d: %.1f mm² used exceeds %.1f mm² allowed", f.Edge, f.UsedAreaMM2, f.AllowedAreaMM2)
 		}

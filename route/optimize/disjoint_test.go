@@ -55,6 +55,38 @@ func TestTrapTopology(t *testing.T) {
 	}
 }
 
+// TestSecondLegCents checks that a diverse demand pays its option's SecondLegCents only with
+// its pair (the package documentation's cost): on the trap topology the pair costs 6 m ×
+// 1.00 + 50.00 + 20.00; with the middle edge's partners gone no pair exists and the single
+// route pays 3 m × 1.00 + 50.00.
+func TestSecondLegCents(t *testing.T) {
+	t.Parallel()
+	const s, a, b, tt = 0, 1, 2, 3
+	edges := func() []Edge {
+		return []Edge{{From: s, To: a, LengthM: 1}, {From: a, To: b, LengthM: 1}, {From: b, To: tt, LengthM: 1},
+			{From: s, To: b, LengthM: 2}, {From: a, To: tt, LengthM: 2}}
+	}
+	for _, tc := range []struct {
+		name  string
+		edges []Edge
+		want  int64
+	}{
+		{"pair", edges(), 600 + 5000 + 2000},
+		{"no pair", edges()[:3], 300 + 5000},
+	} {
+		p := unitProblem(4, tc.edges, s, tt)
+		p.Demands[0].Options[0].FixedCents, p.Demands[0].Options[0].SecondLegCents = 5000, 2000
+		sol, err := Solve(p, Settings{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		verify(t, tc.name, p, sol)
+		if sol.TotalCents != tc.want {
+			t.Errorf("%s: total %d cents, want %d", tc.name, sol.TotalCents, tc.want)
+		}
+	}
+}
+
 // connected reports whether s reaches t over edges, skipping edges for which skip is true.
 func connected(n int, edges []Edge, s, t int, skip func(i int) bool) bool {
 	seen := make([]bool, n)

@@ -7,10 +7,11 @@
 //
 // The cost of a plan is, summed exactly in cents,
 //
-//	Σ demands Σ legs Σ edges   round(LengthM × CablePerMCents) + round(LengthM × LabourPerMCents)
+//	Σ demands Σ legs Σ edges   round(CableM × CablePerMCents) + round(LengthM × LabourPerMCents) + PerCableCents
 //	+ Σ opened proposed edges FixedCents (paid once, however many cables use the edge)
 //	+ Σ added ducts            round(LengthM × AddDuctPerMCents)
-//	+ Σ demands                Option.FixedCents
+//	+ Σ edges with added ducts round(LengthM × AddTrenchPerMCents) (once per edge)
+//	+ Σ demands                Option.FixedCents (+ Option.SecondLegCents with a diverse pair)
 //
 // Solve decides the medium and the route together, keeps every demand within its medium's
 // reach, shares new trench between demands (a fixed-charge network design problem, solved by

@@ -28,6 +28,8 @@ func Fingerprint(p *Problem, opt Settings) (sum [sha256.Size]byte, ok bool) {
 		f.int(int64(e.To))
 		f.float(e.LengthM)
 		f.int(e.LabourPerMCents)
+		f.float(e.CableM)
+		f.int(e.PerCableCents)
 		f.bool(e.Proposed)
 		f.int(e.FixedCents)
 		f.int(int64(e.Group))
@@ -35,6 +37,7 @@ func Fingerprint(p *Problem, opt Settings) (sum [sha256.Size]byte, ok bool) {
 		f.int(int64(e.Ducts))
 		f.float(e.DuctIDMM)
 		f.int(e.AddDuctPerMCents)
+		f.int(e.AddTrenchPerMCents)
 	}
 	f.int(int64(len(p.Demands)))
 	for i := range p.Demands {
@@ -49,6 +52,7 @@ func Fingerprint(p *Problem, opt Settings) (sum [sha256.Size]byte, ok bool) {
 			f.str(o.Name)
 			f.int(o.CablePerMCents)
 			f.int(o.FixedCents)
+			f.int(o.SecondLegCents)
 			f.float(o.MaxRouteM)
 			f.uint(o.ExcludeFlags)
 			f.float(o.CableODMM)

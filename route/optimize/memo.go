@@ -146,7 +146,7 @@ func (sv *solver) stayWeight(d int, c choice) (int64, bool) {
 					return 0, false
 				}
 				if sv.holdsLastDuct(int32(e), area) {
-					w += sv.ductCent[e]
+					w += sv.lastDuctCents(e)
 				}
 			}
 		}

@@ -260,7 +260,7 @@ func (sv *solver) saveBound(d int, open []int32) int64 {
 		if c.opt < 0 || (dm.Diverse && len(c.legs) < 2) {
 			return math.MaxInt64 / 4
 		}
-		cur := c.varCost + dm.Options[c.opt].FixedCents
+		cur := c.varCost + sv.optionCents(d, c.opt, len(c.legs))
 		area := circleMM2(sv.od(d, c.opt))
 		for _, leg := range c.legs {
 			for _, h := range leg {
@@ -268,7 +268,7 @@ func (sv *solver) saveBound(d int, open []int32) int64 {
 					cur += sv.fixedE[h.Edge]
 				}
 				if sv.limited[h.Edge] && st.added[h.Edge] > 0 && sv.holdsLastDuct(int32(h.Edge), area) {
-					cur += sv.ductCent[h.Edge]
+					cur += sv.lastDuctCents(h.Edge)
 				}
 			}
 		}
@@ -333,7 +333,7 @@ func (sv *solver) estimate(d int) int64 {
 	defer func() { sv.ownSt++ }()
 	dm := &sv.p.Demands[d]
 	w := sv.weightFor(d, c.opt)
-	cur := dm.Options[c.opt].FixedCents
+	cur := sv.optionCents(d, c.opt, len(c.legs))
 	for _, leg := range c.legs {
 		for _, h := range leg {
 			we, ok := w(int32(h.Edge))
@@ -349,7 +349,7 @@ func (sv *solver) estimate(d int) int64 {
 		return 0
 	}
 	nw := sv.weightFor(d, nb.opt)
-	nc := dm.Options[nb.opt].FixedCents
+	nc := sv.optionCents(d, nb.opt, len(nb.legs))
 	for _, leg := range nb.legs {
 		for _, h := range leg {
 			we, _ := nw(int32(h.Edge))

@@ -30,8 +30,8 @@ func (sv *solver) solution() *Solution {
 			for _, h := range hops {
 				e := &p.Edges[h.Edge]
 				legs[i].LengthM += e.LengthM
-				r.Cost.CableCents += centsFor(e.LengthM, op.CablePerMCents)
-				r.Cost.LabourCents += centsFor(e.LengthM, e.LabourPerMCents)
+				r.Cost.CableCents += cableCents(e, op.CablePerMCents)
+				r.Cost.LabourCents += labourCents(e)
 			}
 			sol.TotalM += legs[i].LengthM
 		}
@@ -44,7 +44,7 @@ func (sv *solver) solution() *Solution {
 		} else if dm.Diverse {
 			r.SinglePoint, r.Note = sv.singlePoint(d, c.opt)
 		}
-		r.Cost.FixedCents = op.FixedCents
+		r.Cost.FixedCents = sv.optionCents(d, c.opt, len(c.legs))
 	}
 	// Construction shares and added ducts, edge by edge.
 	for e := range p.Edges {
@@ -78,7 +78,7 @@ func (sv *solver) solution() *Solution {
 			prev := 0
 			for i, k := range sv.cap.prefixNeeds(e, ods) {
 				if k > prev {
-					sol.Routes[users[i]].Cost.AddedDuctCents += int64(k-prev) * sv.ductCent[e]
+					sol.Routes[users[i]].Cost.AddedDuctCents += sv.ductsCents(e, k) - sv.ductsCents(e, prev)
 					prev = k
 				}
 			}
@@ -97,7 +97,7 @@ func (sv *solver) legLess(a, b Leg, op *Option) bool {
 		var c int64
 		for _, h := range l.Hops {
 			e := &sv.p.Edges[h.Edge]
-			c += centsFor(e.LengthM, op.CablePerMCents) + centsFor(e.LengthM, e.LabourPerMCents) + e.FixedCents
+			c += cableCents(e, op.CablePerMCents) + labourCents(e) + e.FixedCents
 		}
 		return c
 	}

@@ -27,6 +27,16 @@ type Edge struct {
 	// it depends on the pathway type.
 	LabourPerMCents int64
 
+	// CableM is the cable one cable takes along this edge, in metres: LengthM with what the
+	// caller adds to it (slack loops stored at its ends, waste); 0 means LengthM. An option
+	// pays round(CableM × CablePerMCents) on the edge; reach still counts LengthM.
+	CableM float64
+
+	// PerCableCents is what each cable routed over the edge pays besides its cable and
+	// LabourPerMCents, in cents: costs the caller prices per item (labour at a productivity
+	// rate, material that goes with the cable) and sums per edge.
+	PerCableCents int64
+
 	// Proposed marks an edge that does not exist yet. It can be used only when Problem.AllowNew
 	// is set, and using it opens it: FixedCents (trench or bore, structures) is paid once,
 	// however many cables use it.
@@ -49,6 +59,10 @@ type Edge struct {
 	// AddDuctPerMCents is the price, in cents per metre, of adding one duct of DuctIDMM
 	// along this edge when its spare ducts are full; 0 means no duct can be added.
 	AddDuctPerMCents int64
+
+	// AddTrenchPerMCents is the price, in cents per metre, of the trench or bore the first
+	// added duct needs along this edge: paid once, however many ducts are added.
+	AddTrenchPerMCents int64
 }
 
 // limited reports whether the edge's capacity is checked.
@@ -63,6 +77,11 @@ type Option struct {
 
 	// FixedCents is the route-independent cost of the option (terminations, transceivers), in cents.
 	FixedCents int64
+
+	// SecondLegCents is the route-independent cost of a diverse demand's second leg, in
+	// cents, paid only when the demand gets its pair (a second cable's terminations,
+	// transceivers, risers).
+	SecondLegCents int64
 
 	// MaxRouteM is the longest route, in metres, that the medium reaches along pathways (the
 	// caller has already taken off risers and slack); math.Inf(1) or 0 means no limit.
@@ -192,11 +211,20 @@ func validate(p *Problem, s Settings) error {
 		} else if e.LengthM > maxLengthM {
 			bad("%s: length_m: want at most %v, got %v", name, float64(maxLengthM), e.LengthM)
 		}
+		if !finiteNonNeg(e.CableM) || e.CableM > maxLengthM {
+			bad("%s: cable metres: want finite number in [0, %v], got %v", name, float64(maxLengthM), e.CableM)
+		}
+		if e.PerCableCents < 0 || e.PerCableCents > maxFixedCents {
+			bad("%s: per-cable cost: want cents in [0, %d], got %d", name, int64(maxFixedCents), e.PerCableCents)
+		}
 		if e.LabourPerMCents < 0 || e.LabourPerMCents > maxPerMCents {
 			bad("%s: labour per metre: want cents in [0, %d], got %d", name, int64(maxPerMCents), e.LabourPerMCents)
 		}
 		if e.FixedCents < 0 || e.FixedCents > maxFixedCents {
 			bad("%s: fixed cost: want cents in [0, %d], got %d", name, int64(maxFixedCents), e.FixedCents)
+		}
+		if e.AddTrenchPerMCents < 0 || e.AddTrenchPerMCents > maxPerMCents {
+			bad("%s: added-duct trench price per metre: want cents in [0, %d], got %d", name, int64(maxPerMCents), e.AddTrenchPerMCents)
 		}
 		if e.AddDuctPerMCents < 0 || e.AddDuctPerMCents > maxPerMCents {
 			bad("%s: add-duct price per metre: want cents in [0, %d], got %d", name, int64(maxPerMCents), e.AddDuctPerMCents)
@@ -250,6 +278,9 @@ func demandProblem(p *Problem, d *Demand) string {
 		if o.FixedCents < 0 || o.FixedCents > maxOptionCent {
 			msgs = append(msgs, fmt.Sprintf("%s: fixed cost: want cents in [0, %d], got %d", name, int64(maxOptionCent), o.FixedCents))
 		}
+		if o.SecondLegCents < 0 || o.SecondLegCents > maxOptionCent {
+			msgs = append(msgs, fmt.Sprintf("%s: second-leg cost: want cents in [0, %d], got %d", name, int64(maxOptionCent), o.SecondLegCents))
+		}
 		if math.IsNaN(o.MaxRouteM) || o.MaxRouteM < 0 {
 			msgs = append(msgs, fmt.Sprintf("%s: reach: want metres >= 0 or +Inf, got %v", name, o.MaxRouteM))
 		}
@@ -274,6 +305,29 @@ func reachMM(o *Option) int64 {
 func centsFor(lengthM float64, perMCents int64) int64 {
 	return int64(math.Round(lengthM * float64(perMCents)))
 }
+
+// optionCents is what option o of demand d costs whatever its route, with legs legs: its
+// FixedCents, and its SecondLegCents with a second leg.
+func (sv *solver) optionCents(d, o, legs int) int64 {
+	op := &sv.p.Demands[d].Options[o]
+	if legs >= 2 {
+		return op.FixedCents + op.SecondLegCents
+	}
+	return op.FixedCents
+}
+
+// cableCents is what one cable of an option priced perMCents a metre pays on edge e: its
+// cable over CableM (LengthM when unset), its labour per metre and its per-cable cents.
+func cableCents(e *Edge, perMCents int64) int64 {
+	m := e.CableM
+	if m == 0 {
+		m = e.LengthM
+	}
+	return centsFor(m, perMCents)
+}
+
+// labourCents is edge e's labour for one cable: per metre, and per cable.
+func labourCents(e *Edge) int64 { return centsFor(e.LengthM, e.LabourPerMCents) + e.PerCableCents }
 
 // lengthMM returns an edge length in whole millimetres.
 func lengthMM(lengthM float64) int64 { return int64(math.Round(lengthM * mmPerM)) }

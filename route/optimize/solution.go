@@ -35,8 +35,8 @@ func (l Leg) Nodes(edges []Edge) []int {
 // Breakdown is the cost of one demand in cents. Its parts add up to Total, and the Totals of
 // all routes add up to Solution.TotalCents.
 type Breakdown struct {
-	CableCents  int64 // Σ legs Σ edges round(LengthM × CablePerMCents)
-	LabourCents int64 // Σ legs Σ edges round(LengthM × LabourPerMCents)
+	CableCents  int64 // Σ legs Σ edges round(CableM × CablePerMCents)
+	LabourCents int64 // Σ legs Σ edges round(LengthM × LabourPerMCents) + PerCableCents
 	// ConstructionShareCents is the demand's share of the opened proposed edges it uses: each
 	// edge's FixedCents split equally among its users, the remainder cents to the first user
 	// in demand order.
@@ -44,7 +44,7 @@ type Breakdown struct {
 	// AddedDuctCents is the price of the ducts added because this demand's cable did not fit
 	// (charged to the demand whose cable, pulled in demand order, first needed the duct).
 	AddedDuctCents int64
-	FixedCents     int64 // the option's FixedCents
+	FixedCents     int64 // the option's FixedCents, and its SecondLegCents with a diverse pair
 }
 
 // Total returns the sum of the parts, in cents.

@@ -95,8 +95,10 @@ type solver struct {
 	limited  []bool
 	tracked  []bool
 	ductCent []int64 // edge → cents per added duct
-	groups   map[int][]int32
-	proposed []int32
+	// trenchCent is edge → cents of the trench the first added duct needs (ductsCents).
+	trenchCent []int64
+	groups     map[int][]int32
+	proposed   []int32
 
 	costTrees   []*tree     // slot × profiles + profile, see slot
 	planTrees   []*planTree // slot × profiles + profile
@@ -176,7 +178,7 @@ func newSolver(p *Problem, opt Settings) *solver {
 	sv := &solver{
 		ctx: context.Background(), p: p, net: net, length: opt.Objective == ObjectiveLength, maxRounds: opt.MaxRounds,
 		lenClass: map[uint64]int{}, fixedE: make([]int64, ne), limited: make([]bool, ne), tracked: make([]bool, ne),
-		ductCent: make([]int64, ne), groups: map[int][]int32{},
+		ductCent: make([]int64, ne), trenchCent: make([]int64, ne), groups: map[int][]int32{},
 		propIdx: make([]int32, ne), comps: map[uint64][]int{}, anchorSlot: make([]int32, max(p.Nodes, 0)),
 		failedClose: map[int32]uint64{}, failedOpen: map[string]uint64{}, estMemo: map[estKey]estRec{},
 		cap:    capacity{edges: p.Edges, fits: p.Fits},
@@ -207,6 +209,7 @@ func newSolver(p *Problem, opt Settings) *solver {
 		if e.limited() {
 			sv.limited[i], sv.tracked[i] = true, true
 			sv.ductCent[i] = centsFor(e.LengthM, e.AddDuctPerMCents)
+			sv.trenchCent[i] = centsFor(e.LengthM, e.AddTrenchPerMCents)
 		}
 		if e.Group > 0 {
 			sv.groups[e.Group] = append(sv.groups[e.Group], int32(i))
@@ -298,7 +301,7 @@ func (sv *solver) baseFor(pr profile, cents bool) []int64 {
 		case sv.length && !cents:
 			b[i] = sv.net.lenMM[i]
 		default:
-			b[i] = centsFor(e.LengthM, pr.cablePerM) + centsFor(e.LengthM, e.LabourPerMCents)
+			b[i] = cableCents(e, pr.cablePerM) + labourCents(e)
 		}
 	}
 	return b
@@ -489,11 +492,13 @@ func (sv *solver) best(d int) choice {
 		if lb < 0 {
 			continue
 		}
+		legs := 1
 		if dm.Diverse {
 			lb *= 2
+			legs = 2
 		}
 		if !sv.length {
-			lb += dm.Options[o].FixedCents
+			lb += sv.optionCents(d, o, legs)
 		}
 		order = append(order, lbo{lb, o})
 	}
@@ -520,10 +525,10 @@ func (sv *solver) best(d int) choice {
 				mm += sv.net.lenMM[h.Edge]
 			}
 		}
-		c := cand{obj: w + dm.Options[o].FixedCents, lenMM: mm, opt: o}
+		c := cand{obj: w + sv.optionCents(d, o, n), lenMM: mm, opt: o}
 		if sv.length {
 			// The length objective routes by metres but chooses the cheapest medium.
-			c.obj = vc + dm.Options[o].FixedCents
+			c.obj = vc + sv.optionCents(d, o, n)
 		}
 		if c.less(bestC) {
 			bestC = c
@@ -549,7 +554,7 @@ func (sv *solver) best(d int) choice {
 				consider(x.opt, legs, 2, w)
 			} else if tooLong {
 				// The cheapest pair, too long, bounds every pair within reach from below.
-				x.lb = max(x.lb, w+dm.Options[x.opt].FixedCents)
+				x.lb = max(x.lb, w+sv.optionCents(d, x.opt, 2))
 				if sv.length {
 					x.lb = 0
 				}
@@ -571,7 +576,7 @@ func (sv *solver) best(d int) choice {
 		for i := range order { // single-path bounds are half the pair bounds
 			if !sv.length {
 				o := order[i].opt
-				order[i].lb = (order[i].lb-dm.Options[o].FixedCents)/2 + dm.Options[o].FixedCents
+				order[i].lb = (order[i].lb-sv.optionCents(d, o, 2))/2 + dm.Options[o].FixedCents
 			}
 		}
 	}

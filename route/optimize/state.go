@@ -203,7 +203,7 @@ func (sv *solver) applyDucts(e, added int, ok bool) {
 		st.over[e] = !ok
 	}
 	if !sv.length {
-		st.total += int64(added-st.added[e]) * sv.ductCent[e]
+		st.total += sv.ductsCents(e, added) - sv.ductsCents(e, st.added[e])
 	}
 	st.added[e] = added
 	pk := &st.packs[e]
@@ -252,7 +252,7 @@ func (sv *solver) add(d int, c choice) {
 	if sv.p.Demands[d].Diverse && len(c.legs) < 2 {
 		st.unmet++
 	}
-	st.total += c.varCost + sv.p.Demands[d].Options[c.opt].FixedCents
+	st.total += c.varCost + sv.optionCents(d, c.opt, len(c.legs))
 	st.totalMM += c.lenMM
 	for _, leg := range c.legs {
 		for _, h := range leg {
@@ -316,7 +316,7 @@ func (sv *solver) remove(d int) choice {
 			}
 		}
 	}
-	st.total -= c.varCost + sv.p.Demands[d].Options[c.opt].FixedCents
+	st.total -= c.varCost + sv.optionCents(d, c.opt, len(c.legs))
 	st.totalMM -= c.lenMM
 	if sv.p.Demands[d].Diverse && len(c.legs) < 2 {
 		st.unmet--
@@ -328,6 +328,27 @@ func (sv *solver) remove(d int) choice {
 
 // holdsLastDuct reports whether taking a cable of area areaMM2 out of limited edge e would
 // likely save a duct: the last duct of the flushed packing was added and holds no more cable.
+// ductsCents is what k added ducts on edge e cost: k ducts, and the trench once.
+func (sv *solver) ductsCents(e, k int) int64 {
+	if k <= 0 {
+		return 0
+	}
+	return int64(k)*sv.ductCent[e] + sv.trenchCent[e]
+}
+
+// nextDuctCents is what one more added duct on edge e costs now.
+func (sv *solver) nextDuctCents(e int) int64 {
+	k := sv.st.added[e]
+	return sv.ductsCents(e, k+1) - sv.ductsCents(e, k)
+}
+
+// lastDuctCents is what the last added duct on edge e costs now (its trench too when it is
+// the only one).
+func (sv *solver) lastDuctCents(e int) int64 {
+	k := sv.st.added[e]
+	return sv.ductsCents(e, k) - sv.ductsCents(e, k-1)
+}
+
 func (sv *solver) holdsLastDuct(e int32, areaMM2 float64) bool {
 	pk := &sv.st.packs[e]
 	n := len(pk.count)
@@ -360,13 +381,13 @@ func (sv *solver) penalty(d, o int, e int32, areaMM2 float64) (int64, bool) {
 			// It costs the last duct when that duct was added and holds no more than d's cable
 			// (taking d out would likely empty it).
 			if sv.holdsLastDuct(e, sv.ownArea) && !sv.length {
-				return sv.ductCent[e], true
+				return sv.lastDuctCents(int(e)), true
 			}
 			return 0, true
 		case areaMM2 <= st.free[e]+1e-9:
 			return 0, true
 		case sv.p.Edges[e].AddDuctPerMCents > 0 && areaMM2 <= FillOneCable*st.packs[e].areaMM2+1e-9:
-			pen = sv.ductCent[e]
+			pen = sv.nextDuctCents(int(e))
 		default:
 			return 0, false
 		}
@@ -393,7 +414,7 @@ func (sv *solver) penalty(d, o int, e int32, areaMM2 float64) (int64, bool) {
 	switch {
 	case sv.cap.fits(int(e), ods, avail):
 	case ed.AddDuctPerMCents > 0 && sv.cap.fits(int(e), ods, avail+1):
-		pen = sv.ductCent[e]
+		pen = sv.nextDuctCents(int(e))
 	default:
 		ok = false
 	}
