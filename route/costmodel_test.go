@@ -66,7 +66,7 @@ design: {allow_new_trench: true, innerduct_od_mm: 32, innerduct_id_mm: 27, reel_
 	}
 	p.Dir = dir
 	fsys := fstest.MapFS{"campus.geojson": &fstest.MapFile{Data: campusgen.GeoJSON(c.Features)}}
-	site, err := LoadSite(fsys, p.Campus, SiteOptions{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM})
+	site, err := LoadSite(context.Background(), fsys, p.Campus, SiteOptions{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM})
 	if err != nil {
 		t.Fatal(err)
 	}
