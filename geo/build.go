@@ -638,8 +638,22 @@ func (b *builder) planAccess() {
 			}
 			t, c2 := closestOnSeg(centre, p.xy[sr.i], p.xy[sr.i+1])
 			c := place{seg: int(s), t: t, d: f.distTo(lerp(p.xy[sr.i], p.xy[sr.i+1], t))}
+			if c.d > dMin+lateralTieM {
+				continue // the segment comes near, but not where it passes the centre
+			}
 			if cd := math.Round(math.Sqrt(c2) * 1000); best.seg < 0 || cd < bestC || (cd == bestC && b.better(c, best)) {
 				best, bestC = c, cd
+			}
+		}
+		if best.seg < 0 {
+			// No place about as near lies opposite the centre: the nearest place, as it is.
+			for _, s := range b.buf {
+				sr := b.segs[s]
+				p := &b.parts[sr.part]
+				d, t := f.segDist(p.xy[sr.i], p.xy[sr.i+1])
+				if c := (place{seg: int(s), t: t, d: d}); b.better(c, best) {
+					best = c
+				}
 			}
 		}
 		if best.seg < 0 || best.d > b.maxLat {

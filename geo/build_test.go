@@ -556,3 +556,20 @@ func TestLateralBesideParallelEdge(t *testing.T) {
 		t.Errorf("the lateral joins %.3f m from the point opposite the centre", d)
 	}
 }
+
+// TestLateralToSlantedPathway: a long building beside a pathway that comes within 2 m of it
+// at one end and slants away: the lateral joins where the pathway is near, not opposite the
+// centre where it is 12 m off.
+func TestLateralToSlantedPathway(t *testing.T) {
+	t.Parallel()
+	r := orb.Ring{at(-100, 0), at(100, 0), at(100, 5), at(-100, 5), at(-100, 0)}
+	c := &Campus{Buildings: []Building{{Source: Source{"t.geojson", 0}, ID: "B", RiserM: DefaultRiserM, Footprint: orb.MultiPolygon{{r}}}},
+		Pathways: []Pathway{pw("P", ml(-100, 7, 100, 27))}}
+	n, err := Build(c, Options{MaxLateralM: 10})
+	if err != nil {
+		t.Fatalf("build: %v", err)
+	}
+	if len(n.Access) != 1 || n.Access[0].LateralM > 3 {
+		t.Errorf("access %+v: want a lateral of about 2 m", n.Access)
+	}
+}

@@ -541,55 +541,82 @@ func joinParts(mls orb.MultiLineString) orb.MultiLineString {
 	parts := make([]orb.LineString, 0, len(mls))
 	for _, l := range mls {
 		if len(l) > 0 {
-			parts = append(parts, slices.Clone(l))
+			parts = append(parts, l)
 		}
 	}
-	ends := func(p orb.Point) int {
-		n := 0
-		for _, l := range parts {
-			if l[0] == p {
-				n++
+	if len(parts) < 2 {
+		return parts
+	}
+	// The part ends at each point: a point with exactly two, of two different open parts,
+	// joins them. One pass to count, one to walk the chains: linear in the parts.
+	type end struct {
+		part int
+		head bool
+	}
+	at := make(map[orb.Point][]end, 2*len(parts))
+	closed := func(l orb.LineString) bool { return l[0] == l[len(l)-1] }
+	for i, l := range parts {
+		if closed(l) {
+			continue
+		}
+		at[l[0]] = append(at[l[0]], end{i, true})
+		at[l[len(l)-1]] = append(at[l[len(l)-1]], end{i, false})
+	}
+	used := make([]bool, len(parts))
+	// next is the open part, not yet used, whose end meets the chain's tail at a point
+	// where exactly two part ends meet, oriented to continue the chain.
+	next := func(tail orb.Point, self int) (orb.LineString, int, bool) {
+		es := at[tail]
+		if len(es) != 2 || es[0].part == es[1].part {
+			return nil, 0, false
+		}
+		e := es[0]
+		if e.part == self {
+			e = es[1]
+		}
+		if used[e.part] {
+			return nil, 0, false
+		}
+		l := parts[e.part]
+		if !e.head {
+			l = slices.Clone(l)
+			slices.Reverse(l)
+		}
+		return l, e.part, true
+	}
+	out := make(orb.MultiLineString, 0, len(parts))
+	for i, l := range parts {
+		if used[i] {
+			continue
+		}
+		used[i] = true
+		if closed(l) {
+			out = append(out, l)
+			continue
+		}
+		chain := slices.Clone(l)
+		last := i
+		for pass := 0; pass < 2; pass++ {
+			for {
+				nl, k, ok := next(chain[len(chain)-1], last)
+				if !ok {
+					break
+				}
+				used[k], last = true, k
+				chain = append(chain, nl[1:]...)
 			}
-			if l[len(l)-1] == p {
-				n++
+			if pass == 0 {
+				// Then grow it at its head: turn it round and go on from there.
+				slices.Reverse(chain)
+				last = i
 			}
 		}
-		return n
-	}
-	for joined := true; joined; {
-		joined = false
-		for i := 0; i < len(parts) && !joined; i++ {
-			a := parts[i]
-			if a[0] == a[len(a)-1] {
-				continue
-			}
-			if ends(a[len(a)-1]) != 2 {
-				if ends(a[0]) != 2 {
-					continue
-				}
-				slices.Reverse(a) // join at its head instead
-			}
-			tail := a[len(a)-1]
-			for j := range parts {
-				b := parts[j]
-				if j == i || b[0] == b[len(b)-1] {
-					continue
-				}
-				if b[len(b)-1] == tail {
-					b = slices.Clone(b)
-					slices.Reverse(b)
-				}
-				if b[0] != tail {
-					continue
-				}
-				parts[i] = append(a, b[1:]...)
-				parts = slices.Delete(parts, j, j+1)
-				joined = true
-				break
-			}
+		if chain[len(chain)-1] == l[0] {
+			slices.Reverse(chain) // nothing joined at its head: keep the first part's direction
 		}
+		out = append(out, chain)
 	}
-	return parts
+	return out
 }
 
 func (f *feature) pathway(g orb.Geometry, ok bool) {
