@@ -278,10 +278,11 @@ func newGuard(protect []string) guard {
 // CheckOverwrite refuses, wrapping ErrOverwrite, when writing files into dir would replace
 // one of the files in protect, as WriteFiles and CommitFiles would refuse when they came to
 // write them: a caller that works long before it writes (a sweep) asks first.
+// It touches nothing on disk: a folder that does not exist yet holds no input.
 func CheckOverwrite(dir string, files []OutputFile, protect []string) error {
-	real, _, err := resolveOut(dir)
+	real, err := filepath.EvalSymlinks(dir)
 	if err != nil {
-		real = dir
+		return nil // not there yet (or not reachable: the writer will say so)
 	}
 	return newGuard(protect).check(real, files)
 }

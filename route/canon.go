@@ -22,8 +22,9 @@ type canonical struct {
 	group []int             // canonical group number → the original's (0 stays 0)
 }
 
-// canonicalize orders p canonically; at gives each original node's position (lon, lat).
-func canonicalize(p *optimize.Problem, at func(node int) [2]float64) *canonical {
+// canonicalize orders p canonically; at gives each original node's position (lon, lat) and
+// name its junction id, which orders only nodes at the same position.
+func canonicalize(p *optimize.Problem, at func(node int) [2]float64, name func(node int) string) *canonical {
 	c := &canonical{}
 	c.node = make([]int, p.Nodes)
 	for i := range c.node {
@@ -31,7 +32,7 @@ func canonicalize(p *optimize.Problem, at func(node int) [2]float64) *canonical 
 	}
 	slices.SortStableFunc(c.node, func(a, b int) int {
 		pa, pb := at(a), at(b)
-		return cmp.Or(cmp.Compare(pa[0], pb[0]), cmp.Compare(pa[1], pb[1]))
+		return cmp.Or(cmp.Compare(pa[0], pb[0]), cmp.Compare(pa[1], pb[1]), strings.Compare(name(a), name(b)))
 	})
 	rank := make([]int, p.Nodes)
 	for k, n := range c.node {

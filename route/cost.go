@@ -394,6 +394,10 @@ func (s *Site) problem(m *costModel, links []Link) (*optimize.Problem, []demandI
 	slices.SortFunc(m.classes, func(a, b spanClass) int {
 		return cmp.Or(strings.Compare(a.typ, b.typ), strings.Compare(a.emi, b.emi), boolCmp(a.outdoor, b.outdoor), boolCmp(a.plenum, b.plenum))
 	})
+	if len(m.classes) > 62 {
+		// 5 pathway types × 3 EMI levels × outdoors or not × plenum or not is 60 at most.
+		panic(fmt.Sprintf("route: %d span classes do not fit the optimizer's edge flags", len(m.classes)))
+	}
 	for k, c := range m.classes {
 		// At most 5 pathway types × 3 EMI levels × plenum or not: 30 classes, well within
 		// the flags above firstClassFlag.

@@ -38,13 +38,13 @@ const pullCacheSize = 8192
 
 // solve runs the optimizer, or returns the solution of an identical problem solved before on
 // this site. Solve is deterministic, so the answer is the same either way; the returned
-// solution is shared and must not be modified. A solve stopped by ctx returns ctx's error and
-// is not remembered.
+// solution is the caller's own, mapped back from the canonical one the cache keeps. A solve
+// stopped by ctx returns ctx's error and is not remembered.
 //
 // The optimizer sees the problem in canonical order (canon.go), so that the plan depends on
 // the campus's geometry and costs, not on the names of its ids.
 func (s *Site) solve(ctx context.Context, prob *optimize.Problem, opt optimize.Settings) (*optimize.Solution, error) {
-	c := canonicalize(prob, func(n int) [2]float64 { return s.Net.Junctions[n].Point })
+	c := canonicalize(prob, func(n int) [2]float64 { return s.Net.Junctions[n].Point }, func(n int) string { return s.Net.Junctions[n].ID })
 	key, ok := optimize.Fingerprint(c.prob, opt)
 	if ok {
 		if sol, hit := s.solved.Get(key); hit {

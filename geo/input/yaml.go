@@ -320,6 +320,29 @@ func (d *Decoder) structure(n *yaml.Node, v reflect.Value, at loc) {
 // (<<) name in place of each merge key; a key given in n itself wins over a merged one, an
 // earlier merged mapping over a later one, as YAML's merge key type says.
 func pairs(n *yaml.Node) [][2]*yaml.Node {
+	return (&merger{memo: map[*yaml.Node][][2]*yaml.Node{}, open: map[*yaml.Node]bool{}}).pairs(n)
+}
+
+// merger resolves merge keys once per mapping (an alias may name one mapping many times:
+// without the memo, nested merges grow exponentially) and refuses a mapping that merges
+// itself, directly or through others (yaml.v3 builds such a node, and following it would
+// never end).
+type merger struct {
+	memo map[*yaml.Node][][2]*yaml.Node
+	open map[*yaml.Node]bool // mappings being resolved: merging one of them is a cycle
+}
+
+// badMerge is the key node a merge that cannot be followed is reported under.
+func badMerge(k *yaml.Node, why string) *yaml.Node {
+	return &yaml.Node{Kind: yaml.ScalarNode, Tag: "!!str", Value: "<< (" + why + ")", Line: k.Line, Column: k.Column}
+}
+
+func (mg *merger) pairs(n *yaml.Node) [][2]*yaml.Node {
+	if out, ok := mg.memo[n]; ok {
+		return out
+	}
+	mg.open[n] = true
+	defer delete(mg.open, n)
 	own := map[string]bool{}
 	for i := 0; i+1 < len(n.Content); i += 2 {
 		if n.Content[i].Tag != "!!merge" {
@@ -341,10 +364,14 @@ func pairs(n *yaml.Node) [][2]*yaml.Node {
 		}
 		for _, m := range sources {
 			if m = Resolve(m); m.Kind != yaml.MappingNode {
-				out = append(out, [2]*yaml.Node{k, v}) // reported as an unknown key
+				out = append(out, [2]*yaml.Node{badMerge(k, "a merge key takes a mapping or a list of mappings"), v})
 				break
 			}
-			for _, mkv := range pairs(m) {
+			if mg.open[m] {
+				out = append(out, [2]*yaml.Node{badMerge(k, "merges the mapping it stands in"), v})
+				break
+			}
+			for _, mkv := range mg.pairs(m) {
 				if key := mkv[0].Value; !own[key] && !merged[key] {
 					merged[key] = true
 					out = append(out, mkv)
@@ -352,6 +379,7 @@ func pairs(n *yaml.Node) [][2]*yaml.Node {
 			}
 		}
 	}
+	mg.memo[n] = out
 	return out
 }
 

@@ -1,7 +1,11 @@
 package input
 
 import (
+	"fmt"
+	"strings"
 	"testing"
+
+	"go.yaml.in/yaml/v3"
 )
 
 type walkedLink struct {
@@ -91,5 +95,31 @@ func TestDecoder(t *testing.T) {
 				tc.check(t, f, where)
 			}
 		})
+	}
+}
+
+// TestMergeCycleAndFanOut: a mapping that merges itself is reported, not followed (it never
+// ends), and nested merges that name one mapping many times are resolved once each.
+func TestMergeCycleAndFanOut(t *testing.T) {
+	t.Parallel()
+	var cyc yaml.Node
+	if err := yaml.Unmarshal([]byte("d: &d\n  a: 1\n  <<: *d\n"), &cyc); err != nil {
+		t.Fatal(err)
+	}
+	got := pairs(Resolve(cyc.Content[0].Content[1]))
+	if len(got) != 2 || !strings.Contains(got[1][0].Value, "merges the mapping it stands in") {
+		t.Errorf("self-merge: got %d pairs, want a and the refused merge", len(got))
+	}
+	src := "x0: &a0 {k: 3}\n"
+	for i := 1; i <= 12; i++ {
+		src += fmt.Sprintf("x%d: &a%d {<<: [%s]}\n", i, i, strings.TrimSuffix(strings.Repeat(fmt.Sprintf("*a%d, ", i-1), 10), ", "))
+	}
+	var fan yaml.Node
+	if err := yaml.Unmarshal([]byte(src), &fan); err != nil {
+		t.Fatal(err)
+	}
+	top := fan.Content[0]
+	if got := pairs(Resolve(top.Content[len(top.Content)-1])); len(got) != 1 || got[0][0].Value != "k" {
+		t.Errorf("fan-out: got %d pairs, want the one key k", len(got))
 	}
 }

@@ -53,6 +53,9 @@ func TestRenameIDs(t *testing.T) {
 				l := &base.Legs[i]
 				want[l.Link.From+">"+l.Link.To+"/"+l.Name] = l.Medium + " " + strings.Join(l.Pathways, " ")
 			}
+			if len(res.Legs) != len(base.Legs) {
+				t.Errorf("trial %d: %d legs, want %d", trial, len(res.Legs), len(base.Legs))
+			}
 			for i := range res.Legs {
 				l := &res.Legs[i]
 				ps := make([]string, len(l.Pathways))

@@ -154,10 +154,12 @@ func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
 	h := rowsHeader{Format: RowsFormat, Sweep: sweepHash(f), Scenarios: len(f.Scenarios()), Keys: f.Keys(), Shard: opt.Shard.String()}
 	// Refuse before planning anything when the comparison would replace the sweep file or
 	// the base plan (the files the scenarios read are checked again when it is written).
-	if names, err := renderRun(h, nil, opt.Shard, opt.Compare); err == nil {
-		if err := route.CheckOverwrite(opt.Out, names, r.protect); err != nil {
-			return nil, err
-		}
+	names, err := renderRun(h, nil, opt.Shard, opt.Compare)
+	if err != nil {
+		return nil, err
+	}
+	if err := route.CheckOverwrite(opt.Out, names, r.protect); err != nil {
+		return nil, err
 	}
 	rows, err := r.runAll(ctx, mine)
 	r.emptyTrash()
