@@ -63,12 +63,12 @@ func runPlan(ctx context.Context, fsys fs.FS, p *route.Plan, out string, opt rou
 	if err != nil {
 		return err
 	}
-	stage("loaded")
+	stage(ctx, "loaded")
 	res, err := route.Solve(ctx, site, p)
 	if err != nil {
 		return err
 	}
-	stage("planned")
+	stage(ctx, "planned")
 	files, err := res.Outputs(ctx, opt)
 	if err != nil {
 		return err
@@ -89,7 +89,7 @@ func runPlan(ctx context.Context, fsys fs.FS, p *route.Plan, out string, opt rou
 
 // stage is told when runPlan has read the campus ("loaded") and planned ("planned"); it does
 // nothing but in the tests that stop a plan at a known point (signal_test.go).
-var stage = func(string) {}
+var stage = func(context.Context, string) {}
 
 // overrideFiles points the plan at the files named on the command line; they are relative
 // to the working folder, not to the plan.
