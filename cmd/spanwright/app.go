@@ -117,8 +117,9 @@ var unitsFlag = &cli.StringFlag{
 
 // maxInputFlag sets the size cap of every input file; check, plan and sweep take it.
 var maxInputFlag = &cli.Int64Flag{
-	Name: input.LimitFlag,
-	Usage: fmt.Sprintf("refuse input files larger than this, in MiB (default: %d for campus GeoJSON, %d for plan, sweep, catalog, rule and price files)",
+	Name:  input.LimitFlag,
+	Usage: "refuse input files larger than this, in MiB",
+	DefaultText: fmt.Sprintf("%d for campus GeoJSON, %d for plan, sweep, catalog, rule and price files",
 		input.DefaultDataMiB, input.DefaultTextMiB),
 }
 
