@@ -202,6 +202,9 @@ func sortKeys(keys []PriceKey) {
 // Check reports every key of needs the book lacks, at once, as an *input.Problems
 // with ErrMissingPrice, each naming the key and the path to add it at; nil when all are there.
 func (p *PriceBook) Check(needs []PriceKey) error {
+	if p.hasAll(needs) { // the usual case, without sorting or allocating
+		return nil
+	}
 	var errs input.Problems
 	seen := map[PriceKey]bool{}
 	keys := append([]PriceKey(nil), needs...)
@@ -223,6 +226,22 @@ func (p *PriceBook) Check(needs []PriceKey) error {
 		}
 	}
 	return sorted(&errs)
+}
+
+// hasAll reports whether the book prices every key of needs.
+func (p *PriceBook) hasAll(needs []PriceKey) bool {
+	for _, k := range needs {
+		var ok bool
+		if isRate(k.Item) {
+			_, ok = p.rates[k]
+		} else {
+			_, ok = p.money[k]
+		}
+		if !ok {
+			return false
+		}
+	}
+	return true
 }
 
 // ApplyBP returns bp basis points of cents, rounded half away from zero.
