@@ -421,7 +421,16 @@ func swap(tmp, real, base string) (string, error) {
 // appeared in old after foreign listed it (a file the user saved meanwhile).
 func dropOld(old, real string, files []OutputFile) error {
 	top := topNames(files)
-	ents, _ := os.ReadDir(old)
+	ents, err := os.ReadDir(old)
+	if err != nil {
+		// Files saved into the old folder during the switch cannot be listed: keep the folder
+		// rather than remove what may be someone's work.
+		kept := real + ".kept-" + strconv.Itoa(os.Getpid())
+		if os.Rename(old, kept) == nil {
+			old = kept
+		}
+		return outErr(old, fmt.Errorf("%w; the folder replaced is kept as %s", err, old))
+	}
 	for _, e := range ents {
 		n := e.Name()
 		if top[n] {
@@ -441,7 +450,10 @@ func dropOld(old, real string, files []OutputFile) error {
 	if err := hook("remove", old); err != nil {
 		return outErr(old, err)
 	}
-	os.RemoveAll(old)
+	// The new set is in place: a failure to remove the old folder is not the run's failure.
+	// What is left is one of our hidden folders beside dir, which the next run removes once
+	// this process is gone (recoverSiblings).
+	_ = os.RemoveAll(old)
 	return nil
 }
 

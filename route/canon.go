@@ -148,6 +148,7 @@ func (c *canonical) back(s *optimize.Solution) *optimize.Solution {
 				q.Index = c.group[q.Index]
 			}
 			r.SinglePoint = &q
+			r.Note = "" // it names the point by its canonical number; SinglePoint names it
 		}
 		out.Routes[i] = r
 	}
