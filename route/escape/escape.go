@@ -260,6 +260,20 @@ type terminal struct {
 	held []byte // the start of a UTF-8 sequence the last write ended in
 }
 
+// FlushTerminal writes what a writer from NewTerminal still holds (the start of a UTF-8
+// sequence no later write completed), shown as bytes (<0xNN>); other writers have nothing
+// to flush.
+func FlushTerminal(w io.Writer) error {
+	t, ok := w.(*terminal)
+	if !ok || len(t.held) == 0 {
+		return nil
+	}
+	held := t.held
+	t.held = nil
+	_, err := io.WriteString(t.w, Visible(string(held)))
+	return err
+}
+
 func (t *terminal) Write(p []byte) (int, error) {
 	buf := append(t.held, p...)
 	t.held = nil

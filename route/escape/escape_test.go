@@ -206,3 +206,19 @@ func TestTerminalWriter(t *testing.T) {
 		}
 	}
 }
+
+// TestFlushTerminal: a UTF-8 sequence cut at the end of the last write is not lost: Flush
+// shows its bytes (Unicode's rule: an ill-formed sequence must not vanish silently).
+func TestFlushTerminal(t *testing.T) {
+	var b strings.Builder
+	w := NewTerminal(&b)
+	if _, err := w.Write([]byte("id \xe2\x80")); err != nil { // the first two bytes of U+202E
+		t.Fatal(err)
+	}
+	if err := FlushTerminal(w); err != nil {
+		t.Fatal(err)
+	}
+	if got := b.String(); got != "id <0xE2><0x80>" {
+		t.Errorf("got %q, want the cut sequence shown as bytes", got)
+	}
+}
