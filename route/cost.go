@@ -4,10 +4,8 @@ import (
 	"cmp"
 	"fmt"
 	"math"
-	"regexp"
 	"slices"
 	"sort"
-	"strconv"
 	"strings"
 
 	"spanwright/geo"
@@ -118,31 +116,35 @@ func (m *costModel) allowed(medium string, rate, future float64, strands int, c 
 	return v
 }
 
-var (
-	optionRef   = regexp.MustCompile(`option \d+ \("([^"]*)"\)`)
-	flaggedEdge = regexp.MustCompile(`the edges this option may use \(it excludes edges flagged (0x[0-9a-f]+)\)`)
-)
-
 // explain puts the optimizer's account of an unroutable demand in the plan's words: options
-// by their medium, edge flags as the span classes the rules keep the medium off.
-func (m *costModel) explain(reason string) string {
-	reason = optionRef.ReplaceAllString(reason, "$1")
-	return flaggedEdge.ReplaceAllStringFunc(reason, func(s string) string {
-		bits, err := strconv.ParseUint(flaggedEdge.FindStringSubmatch(s)[1], 0, 64)
-		if err != nil {
-			return s
-		}
-		var off []string
-		if bits&flagDuct != 0 {
-			off = append(off, "ducts (the cable does not fit the innerduct)")
-		}
-		for _, c := range m.classes {
-			if bits&m.classBit[c] != 0 {
-				off = append(off, c.String())
+// by their medium, excluded edge flags as the span classes the rules keep the medium off.
+func (m *costModel) explain(in optimize.Infeasible) string {
+	if len(in.Options) == 0 {
+		return in.Reason
+	}
+	msgs := make([]string, len(in.Options))
+	for i, f := range in.Options {
+		switch f.Kind {
+		case optimize.FailNoPath:
+			msgs[i] = f.Name + ": no pathway joins its two ends"
+		case optimize.FailNoPathFlags:
+			var off []string
+			if f.ExcludeFlags&flagDuct != 0 {
+				off = append(off, "ducts (the cable does not fit the innerduct)")
 			}
+			for _, c := range m.classes {
+				if f.ExcludeFlags&m.classBit[c] != 0 {
+					off = append(off, c.String())
+				}
+			}
+			msgs[i] = f.Name + ": no pathway joins its two ends on the spans its rules allow (it may not run on: " + strings.Join(off, "; ") + ")"
+		case optimize.FailReach:
+			msgs[i] = fmt.Sprintf("%s: the shortest route it may use is %.1f m along pathways, beyond the %.1f m it reaches there", f.Name, f.ShortestM, f.ReachM)
+		default:
+			msgs[i] = f.Name + ": every route within reach crosses ducts too full for the cable"
 		}
-		return "the spans its rules allow (it may not run on: " + strings.Join(off, "; ") + ")"
-	})
+	}
+	return strings.Join(msgs, "; ")
 }
 
 // whyNot is the rule engine's reason for keeping medium off spans of class c.

@@ -5,6 +5,7 @@ import (
 	"testing"
 
 	"spanwright/media"
+	"spanwright/route/optimize"
 )
 
 // rulesWith is the default rule file with the rule id dropped (when drop is set) and extra
@@ -97,5 +98,25 @@ func TestOneRuleSource(t *testing.T) {
 	}
 	if aerial["om4:aerial"] {
 		t.Errorf("the added om3 rule kept om4 off aerial spans")
+	}
+}
+
+// TestExplainInfeasible: the optimizer's account of an unroutable link comes out in the
+// plan's words: media by name, excluded edges as the span classes the rules keep them off,
+// no node numbers or flag bits.
+func TestExplainInfeasible(t *testing.T) {
+	t.Parallel()
+	emi := spanClass{emi: "high", outdoor: true, typ: "duct"}
+	air := spanClass{emi: "none", outdoor: true, typ: "aerial"}
+	cm := &costModel{classes: []spanClass{air, emi}, classBit: map[spanClass]uint64{air: firstClassFlag, emi: firstClassFlag << 1}}
+	got := cm.explain(optimize.Infeasible{Reason: "raw", Options: []optimize.OptionFailure{
+		{Name: "cat6a", Kind: optimize.FailNoPathFlags, ExcludeFlags: firstClassFlag<<1 | flagDuct},
+		{Name: "om4", Kind: optimize.FailReach, ShortestM: 612.34, ReachM: 400},
+		{Name: "os2", Kind: optimize.FailNoPath},
+	}})
+	want := "cat6a: no pathway joins its two ends on the spans its rules allow (it may not run on: ducts (the cable does not fit the innerduct); duct, high EMI); " +
+		"om4: the shortest route it may use is 612.3 m along pathways, beyond the 400.0 m it reaches there; os2: no pathway joins its two ends"
+	if got != want {
+		t.Errorf("got  %s\nwant %s", got, want)
 	}
 }

@@ -236,7 +236,7 @@ func SolveWith(ctx context.Context, s *Site, p *Plan, eng *media.Engine) (*Resul
 	r.Fill = s.fillReport(prob, sol)
 	infeasible := map[int]string{}
 	for _, in := range sol.Infeasible {
-		infeasible[in.Demand] = cm.explain(in.Reason)
+		infeasible[in.Demand] = cm.explain(in)
 	}
 	for i := range links {
 		if err := stopEvery(ctx, i); err != nil {

@@ -16,7 +16,8 @@ func (sv *solver) solution() *Solution {
 		r.Demand, r.ID, r.Option = d, dm.ID, -1
 		c := st.ch[d]
 		if c.opt < 0 {
-			sol.Infeasible = append(sol.Infeasible, Infeasible{Demand: d, ID: dm.ID, Reason: sv.reason(d)})
+			reason, fails := sv.reason(d)
+			sol.Infeasible = append(sol.Infeasible, Infeasible{Demand: d, ID: dm.ID, Reason: reason, Options: fails})
 			continue
 		}
 		op := &dm.Options[c.opt]
@@ -120,14 +121,15 @@ func reverseHops(hops []Hop) []Hop {
 	return out
 }
 
-// reason explains why demand d has no route, option by option.
-func (sv *solver) reason(d int) string {
+// reason explains why demand d has no route, option by option, in words and as data.
+func (sv *solver) reason(d int) (string, []OptionFailure) {
 	if sv.invalid[d] != "" {
-		return sv.invalid[d]
+		return sv.invalid[d], nil
 	}
 	dm := &sv.p.Demands[d]
 	s, t := sv.from[d], sv.to[d]
 	var msgs []string
+	var fails []OptionFailure
 	for o := range dm.Options {
 		op := &dm.Options[o]
 		name := fmt.Sprintf("option %d (%q)", o, op.Name)
@@ -138,18 +140,24 @@ func (sv *solver) reason(d int) string {
 			sv.comps[excl] = comp
 		}
 		lt := sv.lenTree(t, excl)
+		f := OptionFailure{Option: o, Name: op.Name}
 		switch {
 		case comp[s] != comp[t] && excl != 0:
+			f.Kind, f.ExcludeFlags = FailNoPathFlags, excl
 			msgs = append(msgs, fmt.Sprintf("%s: no pathway joins its two ends on the edges this option may use (it excludes edges flagged %#x)", name, excl))
 		case comp[s] != comp[t]:
+			f.Kind = FailNoPath
 			msgs = append(msgs, fmt.Sprintf("%s: no pathway joins its two ends", name))
 		case lt.dist[s] > sv.reach[d][o]:
-			msgs = append(msgs, fmt.Sprintf("%s: shortest route %.3f m exceeds reach %.3f m", name, float64(lt.dist[s])/mmPerM, op.MaxRouteM))
+			f.Kind, f.ShortestM, f.ReachM = FailReach, float64(lt.dist[s])/mmPerM, op.MaxRouteM
+			msgs = append(msgs, fmt.Sprintf("%s: shortest route %.3f m exceeds reach %.3f m", name, f.ShortestM, op.MaxRouteM))
 		default:
+			f.Kind = FailDucts
 			msgs = append(msgs, fmt.Sprintf("%s: every route within reach crosses ducts too full for the cable", name))
 		}
+		fails = append(fails, f)
 	}
-	return strings.Join(msgs, "; ")
+	return strings.Join(msgs, "; "), fails
 }
 
 // singlePoint explains why diverse demand d got one leg, for its option o.

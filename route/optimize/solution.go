@@ -94,6 +94,27 @@ type Infeasible struct {
 	Demand int
 	ID     string
 	Reason string // e.g. `option 0 ("om4"): shortest route 612.300 m exceeds reach 400.000 m`
+	// Options says why each option failed, for a caller that explains it in its own words;
+	// empty when the demand itself is invalid (Reason says why).
+	Options []OptionFailure
+}
+
+// Why an option of an infeasible demand failed.
+const (
+	FailNoPath      = "no-path"       // no path joins the ends at all
+	FailNoPathFlags = "no-path-flags" // none on the edges the option may use (ExcludeFlags)
+	FailReach       = "reach"         // the shortest usable path is longer than the reach
+	FailDucts       = "ducts"         // every path within reach crosses ducts too full
+)
+
+// OptionFailure is why one option of an infeasible demand failed.
+type OptionFailure struct {
+	Option       int
+	Name         string
+	Kind         string  // FailNoPath, FailNoPathFlags, FailReach or FailDucts
+	ExcludeFlags uint64  // the option's, for FailNoPathFlags
+	ShortestM    float64 // for FailReach: the shortest usable path, in metres
+	ReachM       float64 // for FailReach: the option's MaxRouteM
 }
 
 // EdgeFill is the load of one edge that carries at least one cable.
