@@ -39,7 +39,8 @@ type Breakdown struct {
 	LabourCents int64 // Σ legs Σ edges round(LengthM × LabourPerMCents) + PerCableCents
 	// ConstructionShareCents is the demand's share of the opened proposed edges it uses: each
 	// edge's FixedCents split equally among its users, the remainder cents to the first user
-	// in demand order.
+	// in the order of Problem.Demands (route hands the optimizer its demands in canonical
+	// order, by their ends and options, so there it is not the plan's link order).
 	ConstructionShareCents int64
 	// AddedDuctCents is the price of the ducts added because this demand's cable did not fit
 	// (charged to the demand whose cable, pulled in demand order, first needed the duct).
