@@ -56,7 +56,8 @@ func pct(bp int64) string { return strconv.FormatFloat(float64(bp)/100, 'f', 2, 
 
 // bomCSV renders bom.csv: one row per line (category, item, unit, quantity, unit price,
 // extended price), then a subtotal row per category and for all, contingency, overhead,
-// tax and total. Money has two decimals; imperial unit prices per foot have four.
+// tax and total. Money has two decimals; imperial unit prices per foot have six, and are the
+// extended price over the feet shown, so that each row multiplies out.
 func (r *Result) bomCSV(opt WriteOptions) ([]byte, error) {
 	b := r.Estimate.BOM
 	cur := strings.ToLower(b.Currency)
@@ -67,7 +68,14 @@ func (r *Result) bomCSV(opt WriteOptions) ([]byte, error) {
 		unit, qty, price := bomUnit(opt, l)
 		q, p := strconv.FormatFloat(qty, 'f', qtyDecimals(unit), 64), media.FormatCents(l.UnitCents)
 		if unit == "ft" {
-			p = strconv.FormatFloat(price, 'f', 4, 64)
+			// The price per foot that makes the row multiply out: the extended price (the
+			// metric line's, in whole cents) over the quantity as shown, to six decimals, so
+			// that quantity × unit price is the extended price to the cent.
+			shown, _ := strconv.ParseFloat(q, 64)
+			if shown > 0 {
+				price = float64(l.ExtendedCents) / 100 / shown
+			}
+			p = strconv.FormatFloat(price, 'f', 6, 64)
 		}
 		w.Write([]string{l.Category, describe(opt, l), unit, q, p, media.FormatCents(l.ExtendedCents)})
 	}

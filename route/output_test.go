@@ -1,7 +1,11 @@
 package route
 
 import (
+	"bytes"
 	"context"
+	"encoding/csv"
+	"math"
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -74,5 +78,38 @@ func TestLinksCSVPayloads(t *testing.T) {
 				t.Errorf("links.csv cell %q holds a raw hidden character", cell)
 			}
 		}
+	}
+}
+
+// TestImperialBOMMultipliesOut: in bom.csv with --units imperial, every line's quantity in
+// feet times its unit price per foot is its extended price to the cent (an estimator checks
+// a bill this way; with the price per foot rounded to four decimals a 17,185 ft line missed
+// by 0.86).
+func TestImperialBOMMultipliesOut(t *testing.T) {
+	t.Parallel()
+	r := demoResult(t)
+	data, err := r.bomCSV(WriteOptions{Units: UnitsImperial})
+	if err != nil {
+		t.Fatal(err)
+	}
+	rows, err := csv.NewReader(bytes.NewReader(data)).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	n := 0
+	for _, row := range rows[1:] {
+		if row[2] != "ft" {
+			continue
+		}
+		n++
+		q, _ := strconv.ParseFloat(row[3], 64)
+		p, _ := strconv.ParseFloat(row[4], 64)
+		x, _ := strconv.ParseFloat(row[5], 64)
+		if math.Abs(q*p-x) > 0.005 {
+			t.Errorf("%s: %s ft × %s = %.4f, extended %s", row[1], row[3], row[4], q*p, row[5])
+		}
+	}
+	if n == 0 {
+		t.Fatal("no line in feet")
 	}
 }
