@@ -9,6 +9,7 @@ import (
 	"fmt"
 	"io/fs"
 	"math"
+	"os"
 	"slices"
 	"strconv"
 	"strings"
@@ -125,9 +126,31 @@ func LoadLimitContext(ctx context.Context, paths []string, maxBytes int64) (*Cam
 	l := newLoader()
 	l.ctx = ctx
 	max := input.Cap(maxBytes, input.DefaultDataMiB)
+	var seen []struct {
+		path string
+		info os.FileInfo
+	}
 	for _, p := range paths {
 		if err := ctx.Err(); err != nil {
 			return nil, err
+		}
+		// The same file named twice (by the same or another path) would make every one of
+		// its ids a duplicate: say so once instead.
+		if info, err := os.Stat(p); err == nil {
+			twice := ""
+			for _, q := range seen {
+				if os.SameFile(info, q.info) {
+					twice = q.path
+				}
+			}
+			if twice != "" {
+				l.fileErr(p, input.Errorf(input.ErrBadValue, "the same file as %s, given twice; name each campus file once", twice))
+				continue
+			}
+			seen = append(seen, struct {
+				path string
+				info os.FileInfo
+			}{p, info})
 		}
 		data, err := input.ReadFile(p, max)
 		if err != nil {

@@ -417,3 +417,14 @@ func TestJoinPartsLinear(t *testing.T) {
 		t.Errorf("the longest line has %d points, want 4,001", long)
 	}
 }
+
+// TestLoadSameFileTwice: one campus file named twice (here by two spellings of its path) is
+// one problem saying so, not a duplicate-id error for every feature.
+func TestLoadSameFileTwice(t *testing.T) {
+	t.Parallel()
+	p := filepath.Join(badDir, "zero_duct.geojson")
+	_, err := Load([]string{p, filepath.Join(badDir, ".", "zero_duct.geojson")})
+	if err == nil || !strings.Contains(err.Error(), "given twice") || strings.Contains(err.Error(), "duplicate id") {
+		t.Errorf("got %v, want one problem saying the file is given twice", err)
+	}
+}

@@ -2,6 +2,7 @@ package main
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"io"
 	"strings"
@@ -37,9 +38,13 @@ func checkCommand() *cli.Command {
 	}
 }
 
-func runCheck(ctx context.Context, args []string, maxBytes int64, opt route.WriteOptions, w io.Writer) error {
+func runCheck(ctx context.Context, args []string, maxBytes int64, opt route.WriteOptions, w io.Writer) (err error) {
+	defer func() {
+		if err != nil && ctx.Err() != nil && errors.Is(err, ctx.Err()) {
+			err = fmt.Errorf("stopped: %w", err)
+		}
+	}()
 	var site *route.Site
-	var err error
 	var p *route.Plan
 	hub := ""
 	if len(args) == 1 && (strings.HasSuffix(args[0], ".yaml") || strings.HasSuffix(args[0], ".yml")) {
