@@ -615,53 +615,52 @@ func (b *builder) planAccess() {
 		}
 		lo, hi = f.lo.sub(vec{b.maxLat, b.maxLat}), f.hi.add(vec{b.maxLat, b.maxLat})
 		b.buf = b.segGrid.query(lo, hi, b.buf)
-		// The nearest pathway decides how far the lateral must reach; where it joins is the
-		// point of the pathways about as near (within lateralTieM) closest to the footprint's
-		// centre. A footprint edge parallel to a pathway is equally near all along it, and the
-		// nearest point alone would jump from one end of the edge to the other when a vertex
-		// moves by a millimetre.
-		dMin := math.Inf(1)
-		for _, s := range b.buf {
-			sr := b.segs[s]
-			p := &b.parts[sr.part]
-			d, _ := f.segDist(p.xy[sr.i], p.xy[sr.i+1])
-			dMin = min(dMin, d)
-		}
-		centre := lerp(f.lo, f.hi, 0.5)
-		best := place{seg: -1}
-		bestC := math.Inf(1)
-		for _, s := range b.buf {
-			sr := b.segs[s]
-			p := &b.parts[sr.part]
-			if d, _ := f.segDist(p.xy[sr.i], p.xy[sr.i+1]); d > dMin+lateralTieM {
-				continue
-			}
-			t, c2 := closestOnSeg(centre, p.xy[sr.i], p.xy[sr.i+1])
-			c := place{seg: int(s), t: t, d: f.distTo(lerp(p.xy[sr.i], p.xy[sr.i+1], t))}
-			if c.d > dMin+lateralTieM {
-				continue // the segment comes near, but not where it passes the centre
-			}
-			if cd := math.Round(math.Sqrt(c2) * 1000); best.seg < 0 || cd < bestC || (cd == bestC && b.better(c, best)) {
-				best, bestC = c, cd
-			}
-		}
-		if best.seg < 0 {
-			// No place about as near lies opposite the centre: the nearest place, as it is.
-			for _, s := range b.buf {
-				sr := b.segs[s]
-				p := &b.parts[sr.part]
-				d, t := f.segDist(p.xy[sr.i], p.xy[sr.i+1])
-				if c := (place{seg: int(s), t: t, d: d}); b.better(c, best) {
-					best = c
-				}
-			}
-		}
+		best := b.lateralPlace(f)
 		if best.seg < 0 || best.d > b.maxLat {
 			b.add(bl.Source, bl.ID, "", problemf(ErrUnreachable, "no pathway within %s m of the footprint (MaxLateralM)", fmtM(b.maxLat)))
 			continue
 		}
 		b.plans[bi] = accessPlan{via: ViaLateral, target: b.target(best.seg, best.t)}
 	}
+}
+
+// lateralPlace is where a counted lateral from footprint f joins the pathways among b.buf
+// (seg < 0 when none). The nearest pathway decides how far the lateral must reach; where it
+// joins is the place about as near (within lateralTieM) that lies closest to the footprint's
+// centre. A footprint edge parallel to a pathway is equally near all along it, and the
+// nearest place alone would jump from one end of the edge to the other when a vertex moves by
+// a millimetre. When no place about as near lies opposite the centre, the nearest place.
+func (b *builder) lateralPlace(f *footprint) place {
+	nearest := place{seg: -1}
+	for _, s := range b.buf {
+		sr := b.segs[s]
+		p := &b.parts[sr.part]
+		d, t := f.segDist(p.xy[sr.i], p.xy[sr.i+1])
+		if c := (place{seg: int(s), t: t, d: d}); b.better(c, nearest) {
+			nearest = c
+		}
+	}
+	if nearest.seg < 0 {
+		return nearest
+	}
+	centre := lerp(f.lo, f.hi, 0.5)
+	best, bestC := place{seg: -1}, math.Inf(1)
+	for _, s := range b.buf {
+		sr := b.segs[s]
+		p := &b.parts[sr.part]
+		t, c2 := closestOnSeg(centre, p.xy[sr.i], p.xy[sr.i+1])
+		c := place{seg: int(s), t: t, d: f.distTo(lerp(p.xy[sr.i], p.xy[sr.i+1], t))}
+		if c.d > nearest.d+lateralTieM {
+			continue // not about as near where it passes the centre (or not near at all)
+		}
+		if cd := math.Round(math.Sqrt(c2) * 1000); best.seg < 0 || cd < bestC || (cd == bestC && b.better(c, best)) {
+			best, bestC = c, cd
+		}
+	}
+	if best.seg < 0 {
+		return nearest
+	}
+	return best
 }
 
 func (b *builder) planEntrance(bl Building, ents []int) accessPlan {

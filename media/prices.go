@@ -214,13 +214,7 @@ func (p *PriceBook) Check(needs []PriceKey) error {
 			continue
 		}
 		seen[k] = true
-		var ok bool
-		if isRate(k.Item) {
-			_, ok = p.rates[k]
-		} else {
-			_, ok = p.money[k]
-		}
-		if !ok {
+		if !p.has(k) {
 			errs.Add(&input.Problem{File: p.File, Item: "price " + strconv.Quote(k.String()),
 				Err: input.Errorf(ErrMissingPrice, "missing; add %s", k.Path())})
 		}
@@ -231,17 +225,21 @@ func (p *PriceBook) Check(needs []PriceKey) error {
 // hasAll reports whether the book prices every key of needs.
 func (p *PriceBook) hasAll(needs []PriceKey) bool {
 	for _, k := range needs {
-		var ok bool
-		if isRate(k.Item) {
-			_, ok = p.rates[k]
-		} else {
-			_, ok = p.money[k]
-		}
-		if !ok {
+		if !p.has(k) {
 			return false
 		}
 	}
 	return true
+}
+
+// has reports whether the book prices k, a rate or an amount of money.
+func (p *PriceBook) has(k PriceKey) bool {
+	if isRate(k.Item) {
+		_, ok := p.rates[k]
+		return ok
+	}
+	_, ok := p.money[k]
+	return ok
 }
 
 // ApplyBP returns bp basis points of cents, rounded half away from zero.
