@@ -452,7 +452,6 @@ type demandInfo struct {
 	facts    media.Link // route-independent facts; RouteM and the route facts are filled per leg
 	rate     float64
 	strands  int // cable strands after growth and rounding
-	constM   float64
 	options  []string
 	excluded []string // media left out before routing, with why
 }
@@ -478,7 +477,7 @@ func (s *Site) demand(m *costModel, l *Link) (optimize.Demand, demandInfo) {
 	endItems := append(legEnds(riser, coils, lateral), structureLoops(endLoops)...)
 	facts := media.Link{ID: l.ID, RiserM: riser, SlackM: slack, RateGbps: rate, FutureRateGbps: future,
 		MaxEMI: geo.EMINone, ConnectorPairs: ConnectorPairs, Strands: strands}
-	info := demandInfo{facts: facts, rate: rate, strands: strands, constM: riser + lateral + slack}
+	info := demandInfo{facts: facts, rate: rate, strands: strands}
 	dm := optimize.Demand{ID: l.ID, Source: int(srcN), Target: int(dstN), Diverse: l.Diverse}
 	for _, med := range m.eng.Media() {
 		mm := m.eng.Catalog().Medium(med)

@@ -272,14 +272,14 @@ func (s *Site) legsOf(cm *costModel, prob *optimize.Problem, rt *optimize.Route,
 		}
 		return legs
 	}
-	s.fillLeg(cm, prob, &primary, rt.Primary, rt.Medium, info)
+	s.fillLeg(cm, &primary, rt.Primary, rt.Medium, info)
 	primary.Cost.ConstructionCents += rt.Cost.ConstructionShareCents + rt.Cost.AddedDuctCents
 	legs := []Leg{primary}
 	if l.Diverse {
 		d := base
 		d.Name = LegDiverse
 		if len(rt.Secondary.Hops) > 0 {
-			s.fillLeg(cm, prob, &d, rt.Secondary, rt.Medium, info)
+			s.fillLeg(cm, &d, rt.Secondary, rt.Medium, info)
 		} else {
 			d.Reason = "no diverse route: " + s.singlePoint(prob, rt)
 		}
@@ -290,7 +290,7 @@ func (s *Site) legsOf(cm *costModel, prob *optimize.Problem, rt *optimize.Route,
 
 // fillLeg sets a leg's route and its medium from the rule engine on the route's own facts;
 // the estimate prices it (Result.quantities).
-func (s *Site) fillLeg(cm *costModel, prob *optimize.Problem, leg *Leg, ol optimize.Leg, medium string, info demandInfo) {
+func (s *Site) fillLeg(cm *costModel, leg *Leg, ol optimize.Leg, medium string, info demandInfo) {
 	leg.RouteM = leg.LateralM
 	emi := geo.EMINone
 	outdoor := leg.LateralM > 0
