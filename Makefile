@@ -54,7 +54,7 @@ e2e:
 # a minute of coverage-guided fuzzing of the GeoJSON reader, and one of the plan reader
 fuzz:
 	$(GO) test -run '^$$' -fuzz FuzzParse -fuzztime 60s ./geo/
-	$(GO) test -run '^$$' -fuzz FuzzParsePlan -fuzztime 60s ./route/
+	$(GO) test -run '^$$' -fuzz FuzzParsePlan -fuzztime 60s ./route/plan/
 
 clean:
 	rm -rf bin demo-out

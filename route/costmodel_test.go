@@ -1,4 +1,4 @@
-package route
+package route_test
 
 import (
 	"bytes"
@@ -13,8 +13,13 @@ import (
 
 	"spanwright/geo"
 	"spanwright/media"
+	"spanwright/route"
 	"spanwright/route/internal/campusgen"
+	"spanwright/route/items"
 	"spanwright/route/optimize"
+	"spanwright/route/plan"
+	"spanwright/route/routing"
+	"spanwright/route/site"
 )
 
 // costBook is a price book that prices every item of the catalog and the bill, none at zero:
@@ -38,7 +43,7 @@ func costBook(t *testing.T, edits ...string) []byte {
 
 // costScenario plans a generated campus of 40 buildings with the price book, new trench
 // allowed, innerduct in every duct, no reel joins and no pull-length limit.
-func costScenario(t *testing.T, seed uint64, book []byte) *Result {
+func costScenario(t *testing.T, seed uint64, book []byte) *route.Result {
 	t.Helper()
 	c := campusgen.Generate(seed, campusgen.Options{Buildings: 40})
 	dir := t.TempDir()
@@ -51,7 +56,7 @@ func costScenario(t *testing.T, seed uint64, book []byte) *Result {
 			diverse = append(diverse, fmt.Sprintf("  - {to: %s, redundancy: diverse}", id))
 		}
 	}
-	plan := fmt.Sprintf(`name: cost model
+	planText := fmt.Sprintf(`name: cost model
 campus: [campus.geojson]
 hub: %s
 prices: prices.yaml
@@ -60,17 +65,17 @@ links:
 %s
 design: {allow_new_trench: true, innerduct_od_mm: 32, innerduct_id_mm: 27, reel_m: 100000, pull_max_m: 0}
 `, c.Hub, strings.Join(diverse, "\n"))
-	p, err := ParsePlan("plan.yaml", []byte(plan))
+	p, err := plan.ParsePlan("plan.yaml", []byte(planText))
 	if err != nil {
 		t.Fatal(err)
 	}
 	p.Dir = dir
 	fsys := fstest.MapFS{"campus.geojson": &fstest.MapFile{Data: campusgen.GeoJSON(c.Features)}}
-	site, err := LoadSite(context.Background(), fsys, p.Campus, SiteOptions{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM})
+	site, err := site.Load(context.Background(), fsys, p.Campus, site.Options{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM})
 	if err != nil {
 		t.Fatal(err)
 	}
-	r, err := Solve(context.Background(), site, p)
+	r, err := route.Solve(context.Background(), site, p)
 	if err != nil {
 		t.Fatalf("seed %d: %v", seed, err)
 	}
@@ -105,7 +110,7 @@ func lineRouteDependent(l media.BOMLine) bool {
 // them: 0.05 m × the unit price for metres, 0.01 h × the hourly price for labour, and half a
 // cent each (media.PriceBook.Cents).
 func routeLines(b *media.BOM, p *media.PriceBook) (cents int64, bound float64) {
-	hour, _ := p.Price(labourHour)
+	hour, _ := p.Price(items.LabourHour)
 	for _, l := range b.Lines {
 		if !lineRouteDependent(l) {
 			continue
@@ -124,18 +129,18 @@ func routeLines(b *media.BOM, p *media.PriceBook) (cents int64, bound float64) {
 // routeIndependentCents is what the optimizer's objective holds besides the route-dependent
 // items: each routed demand's terminations and transceivers (media.Engine.FixedCents, once
 // per leg).
-func routeIndependentCents(r *Result) int64 {
+func routeIndependentCents(r *route.Result) int64 {
 	var c int64
 	for i := range r.Legs {
 		l := &r.Legs[i]
 		if l.Feasible {
-			c += r.Engine.FixedCents(l.Medium, mustRate(r, l.Link.Rate), CableStrands(l.Link.Strands, l.Link.Growth))
+			c += r.Engine.FixedCents(l.Medium, mustRate(r, l.Link.Rate), routing.CableStrands(l.Link.Strands, l.Link.Growth))
 		}
 	}
 	return c
 }
 
-func mustRate(r *Result, rate string) float64 {
+func mustRate(r *route.Result, rate string) float64 {
 	x, _ := r.Engine.Catalog().ParseRate(rate)
 	return x
 }
@@ -146,7 +151,7 @@ func mustRate(r *Result, rate string) float64 {
 // bill puts one per junction. It fails the test on
 // what the model is not meant to meet here (a leg the rules moved to another medium or
 // construction, several cables, transitions, reel joins).
-func modelGap(t *testing.T, r *Result) (billOnly, modelOnly int64) {
+func modelGap(t *testing.T, r *route.Result) (billOnly, modelOnly int64) {
 	t.Helper()
 	p := r.Engine.PriceBook()
 	prob, links := problemOf(t, r)
@@ -163,7 +168,7 @@ func modelGap(t *testing.T, r *Result) (billOnly, modelOnly int64) {
 	}
 	for i := range r.Legs {
 		l := &r.Legs[i]
-		if !l.Feasible && l.Name == LegDiverse && strings.HasPrefix(l.Reason, "no diverse route") {
+		if !l.Feasible && l.Name == routing.LegDiverse && strings.HasPrefix(l.Reason, "no diverse route") {
 			continue // the model charges no second leg either (Option.SecondLegCents)
 		}
 		if !l.Feasible {
@@ -176,14 +181,14 @@ func modelGap(t *testing.T, r *Result) (billOnly, modelOnly int64) {
 		if price, _ := p.Price(media.PriceKey{Item: media.PriceCable, Medium: l.Medium, Construction: l.Construction, Count: l.Cable.Size.Count}); price != perM {
 			t.Fatalf("leg %s %s: %s at %d cents a metre, the model's cable %d", l.Link.ID, l.Name, l.Construction, price, perM)
 		}
-		billOnly += media.MulCents(perM, l.Cable.LengthM-r.Plan.Design.wasted(l.Cable.ChannelM))
+		billOnly += media.MulCents(perM, l.Cable.LengthM-items.Wasted(r.Plan.Design, l.Cable.ChannelM))
 	}
 	hh, _ := p.Price(media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole})
 	ends := map[string]int{}
 	for _, id := range r.Opened {
 		sp, _ := r.Site.Net.Span(id)
 		for _, j := range []string{sp.From, sp.To} {
-			if r.Site.joinsNetwork(j) {
+			if r.Site.JoinsNetwork(j) {
 				ends[j]++
 			}
 		}
@@ -260,7 +265,7 @@ func TestOneCostModel(t *testing.T) {
 }
 
 // problemOf builds the optimizer's problem of r's plan again, with r's engine.
-func problemOf(t *testing.T, r *Result) (*optimize.Problem, []Link) {
+func problemOf(t *testing.T, r *route.Result) (*optimize.Problem, []site.Link) {
 	t.Helper()
 	hub, err := r.Site.Hub(r.Plan)
 	if err != nil {
@@ -270,11 +275,11 @@ func problemOf(t *testing.T, r *Result) (*optimize.Problem, []Link) {
 	if len(errs) > 0 {
 		t.Fatal(errs)
 	}
-	cm, err := newCostModel(r.Engine, r.Plan.Design)
+	cm, err := routing.NewModel(r.Engine, r.Plan.Design)
 	if err != nil {
 		t.Fatal(err)
 	}
-	prob, _, err := r.Site.problem(cm, links)
+	prob, err := routing.Problem(r.Site, cm, links)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -283,7 +288,7 @@ func problemOf(t *testing.T, r *Result) (*optimize.Problem, []Link) {
 
 // objectiveOf evaluates the optimizer's objective (route/optimize's package documentation)
 // of r's routes, media, opened spans and added ducts on prob, a problem of the same site.
-func objectiveOf(r *Result, prob *optimize.Problem, links []Link) int64 {
+func objectiveOf(r *route.Result, prob *optimize.Problem, links []site.Link) int64 {
 	var c int64
 	index := map[string]int{}
 	for i := range r.Site.Net.Spans {
@@ -341,7 +346,7 @@ func TestCostModelMovesWithTheBill(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		eng, err := media.NewEngine(r.Engine.Catalog(), nil, pb, EngineOptions(r.Plan))
+		eng, err := media.NewEngine(r.Engine.Catalog(), nil, pb, plan.EngineOptions(r.Plan))
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -399,11 +404,11 @@ func TestCostModelMovesWithTheBill(t *testing.T) {
 }
 
 // gapMove is how much the gaps modelGap names move between two price books on r's plan.
-func gapMove(t *testing.T, r *Result, a, b *media.PriceBook) float64 {
+func gapMove(t *testing.T, r *route.Result, a, b *media.PriceBook) float64 {
 	t.Helper()
 	gap := func(pb *media.PriceBook) float64 {
 		eng := r.Engine
-		e2, err := media.NewEngine(eng.Catalog(), nil, pb, EngineOptions(r.Plan))
+		e2, err := media.NewEngine(eng.Catalog(), nil, pb, plan.EngineOptions(r.Plan))
 		if err != nil {
 			t.Fatal(err)
 		}

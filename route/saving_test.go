@@ -1,9 +1,13 @@
-package route
+package route_test
 
 import (
 	"testing"
 
+	"spanwright/route/internal/testsite"
 	"spanwright/route/optimize"
+	"spanwright/route/plan"
+	"spanwright/route/routing"
+	"spanwright/route/site"
 )
 
 // independentCents routes every demand of prob alone, each paying in full for the proposed
@@ -31,20 +35,20 @@ func TestSavingOverIndependentRouting(t *testing.T) {
 	t.Parallel()
 	cases := []struct {
 		name        string
-		site        func(t *testing.T) (*Site, *Plan)
+		site        func(t *testing.T) (*site.Site, *plan.Plan)
 		trenchScale float64
 	}{
-		{"demo campus", func(t *testing.T) (*Site, *Plan) { return demoSite(t) }, 1},
-		{"demo campus, trench at a tenth of the demo price", func(t *testing.T) (*Site, *Plan) { return demoSite(t) }, 0.1},
+		{"demo campus", func(t *testing.T) (*site.Site, *plan.Plan) { return testsite.Demo(t) }, 1},
+		{"demo campus, trench at a tenth of the demo price", func(t *testing.T) (*site.Site, *plan.Plan) { return testsite.Demo(t) }, 0.1},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
 			s, p := tc.site(t)
-			eng, err := Engine(p)
+			eng, err := plan.Engine(p)
 			if err != nil {
 				t.Fatal(err)
 			}
-			cm, err := newCostModel(eng, p.Design)
+			cm, err := routing.NewModel(eng, p.Design)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -56,7 +60,7 @@ func TestSavingOverIndependentRouting(t *testing.T) {
 			if len(errs) > 0 {
 				t.Fatal(errs)
 			}
-			prob, _, err := s.problem(cm, links)
+			prob, err := routing.Problem(s, cm, links)
 			if err != nil {
 				t.Fatal(err)
 			}

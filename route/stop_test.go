@@ -1,4 +1,4 @@
-package route
+package route_test
 
 import (
 	"bytes"
@@ -10,6 +10,12 @@ import (
 	"testing"
 
 	"spanwright/geo/ctxtest"
+	"spanwright/route"
+	"spanwright/route/fileset"
+	"spanwright/route/internal/testplan"
+	"spanwright/route/internal/testsite"
+	"spanwright/route/output"
+	"spanwright/route/plan"
 )
 
 // TestSolveWithStops plans a 300-building campus with a context that is never done, then
@@ -20,28 +26,28 @@ import (
 // the same bytes as one with context.Background.
 func TestSolveWithStops(t *testing.T) {
 	t.Parallel()
-	s := newSynthSite(t, 300) // a site of its own: clearing its caches disturbs no other test
-	p := synthPlan(s)
-	eng, err := Engine(p)
+	s := testsite.NewSynth(t, 300) // a site of its own: clearing its caches disturbs no other test
+	p := testsite.SynthPlan(s)
+	eng, err := plan.Engine(p)
 	if err != nil {
 		t.Fatal(err)
 	}
-	want, err := SolveWith(context.Background(), s, p, eng)
+	want, err := route.SolveWith(context.Background(), s, p, eng)
 	if err != nil {
 		t.Fatal(err)
 	}
-	s.solved.Purge()
+	s.Solved.Purge()
 	count := ctxtest.New(0)
-	got, err := SolveWith(count, s, p, eng)
+	got, err := route.SolveWith(count, s, p, eng)
 	if err != nil {
 		t.Fatal(err)
 	}
 	total := count.Looks()
-	wf, err := want.Outputs(context.Background(), WriteOptions{})
+	wf, err := output.Files(context.Background(), want, output.WriteOptions{})
 	if err != nil {
 		t.Fatal(err)
 	}
-	gf, err := got.Outputs(ctxtest.New(0), WriteOptions{})
+	gf, err := output.Files(ctxtest.New(0), got, output.WriteOptions{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -51,11 +57,11 @@ func TestSolveWithStops(t *testing.T) {
 		}
 	}
 	for _, at := range []int64{1, total / 4, total / 2, 3 * total / 4, total} {
-		s.solved.Purge()
+		s.Solved.Purge()
 		probe := ctxtest.New(at)
 		var seen int64
 		probe.OnStop = func() { seen = probe.Looks() }
-		r, err := SolveWith(probe, s, p, eng)
+		r, err := route.SolveWith(probe, s, p, eng)
 		if !errors.Is(err, context.Canceled) || r != nil {
 			t.Errorf("cancelled at look %d of %d: got a result %v, %v; want none and context.Canceled", at, total, r != nil, err)
 			continue
@@ -71,14 +77,14 @@ func TestSolveWithStops(t *testing.T) {
 // each returns context.Canceled and no file.
 func TestOutputsStop(t *testing.T) {
 	t.Parallel()
-	r := demoResult(t)
+	r := testplan.DemoResult(t)
 	count := ctxtest.New(0)
-	if _, err := r.Outputs(count, WriteOptions{}); err != nil {
+	if _, err := output.Files(count, r, output.WriteOptions{}); err != nil {
 		t.Fatal(err)
 	}
 	total := count.Looks()
 	for at := int64(1); at <= total; at += max(1, total/12) {
-		files, err := r.Outputs(ctxtest.New(at), WriteOptions{})
+		files, err := output.Files(ctxtest.New(at), r, output.WriteOptions{})
 		if !errors.Is(err, context.Canceled) || files != nil {
 			t.Errorf("cancelled at look %d of %d: got %d files, %v; want none and context.Canceled", at, total, len(files), err)
 		}
@@ -90,9 +96,9 @@ func TestOutputsStop(t *testing.T) {
 // beside it; with the context done from the start, a missing folder is not even created.
 func TestWriteFilesStop(t *testing.T) {
 	t.Parallel()
-	files := []OutputFile{{Name: "a.csv", Data: []byte("new a\n")}, {Name: "b.json", Data: []byte("new b\n")}, {Name: "c.txt", Data: []byte("new c\n")}}
+	files := []fileset.OutputFile{{Name: "a.csv", Data: []byte("new a\n")}, {Name: "b.json", Data: []byte("new b\n")}, {Name: "c.txt", Data: []byte("new c\n")}}
 	count := ctxtest.New(0)
-	if err := WriteFiles(count, t.TempDir(), files, nil); err != nil {
+	if err := fileset.WriteFiles(count, t.TempDir(), files, nil); err != nil {
 		t.Fatal(err)
 	}
 	total := count.Looks()
@@ -103,7 +109,7 @@ func TestWriteFilesStop(t *testing.T) {
 				t.Fatal(err)
 			}
 		}
-		if err := WriteFiles(ctxtest.New(at), dir, files, nil); !errors.Is(err, context.Canceled) {
+		if err := fileset.WriteFiles(ctxtest.New(at), dir, files, nil); !errors.Is(err, context.Canceled) {
 			t.Errorf("cancelled at look %d of %d: got %v, want context.Canceled", at, total, err)
 		}
 		ents, err := os.ReadDir(dir)
@@ -118,7 +124,7 @@ func TestWriteFilesStop(t *testing.T) {
 		}
 	}
 	missing := filepath.Join(t.TempDir(), "out")
-	if err := WriteFiles(ctxtest.New(1), missing, files, nil); !errors.Is(err, context.Canceled) {
+	if err := fileset.WriteFiles(ctxtest.New(1), missing, files, nil); !errors.Is(err, context.Canceled) {
 		t.Errorf("context done from the start: got %v, want context.Canceled", err)
 	}
 	if _, err := os.Stat(missing); !errors.Is(err, os.ErrNotExist) {

@@ -11,6 +11,8 @@ import (
 
 	"spanwright/geo/input"
 	"spanwright/route"
+	"spanwright/route/fileset"
+	"spanwright/route/output"
 )
 
 // Exit statuses. 130 and 143 (stopped by a signal) are set by main.
@@ -34,13 +36,13 @@ func onUsageError(_ *cli.Context, err error, _ bool) error { return usageError{e
 func exitCode(err error) int {
 	var ue usageError
 	var ip *input.Problem
-	var oe *route.OutputError
+	var oe *fileset.OutputError
 	switch {
 	case err == nil:
 		return exitOK
 	case errors.Is(err, route.ErrInfeasible):
 		return exitInfeasible
-	case errors.Is(err, route.ErrOverwrite), errors.Is(err, route.ErrOutFolder):
+	case errors.Is(err, fileset.ErrOverwrite), errors.Is(err, fileset.ErrOutFolder):
 		// The command as given can never succeed: its --out holds what it must not replace.
 		return exitInvalid
 	case errors.As(err, &oe), environmental(err):
@@ -111,7 +113,7 @@ func newApp() *cli.App {
 // unitsFlag is shared by every command that prints lengths.
 var unitsFlag = &cli.StringFlag{
 	Name:  "units",
-	Value: route.UnitsMetric,
+	Value: output.UnitsMetric,
 	Usage: "units for CSV and printed lengths: metric or imperial (JSON and GeoJSON stay metric)",
 }
 
@@ -138,10 +140,10 @@ func maxInputBytes(c *cli.Context) (int64, error) {
 	return mb * input.MiB, nil
 }
 
-func writeOptions(c *cli.Context) (route.WriteOptions, error) {
+func writeOptions(c *cli.Context) (output.WriteOptions, error) {
 	u := c.String("units")
-	if u != route.UnitsMetric && u != route.UnitsImperial {
-		return route.WriteOptions{}, usageError{fmt.Errorf("--units: want metric or imperial, got %q", u)}
+	if u != output.UnitsMetric && u != output.UnitsImperial {
+		return output.WriteOptions{}, usageError{fmt.Errorf("--units: want metric or imperial, got %q", u)}
 	}
-	return route.WriteOptions{Units: u}, nil
+	return output.WriteOptions{Units: u}, nil
 }

@@ -11,8 +11,10 @@ import (
 
 	"spanwright/geo"
 	"spanwright/geo/input"
-	"spanwright/route"
 	"spanwright/route/escape"
+	"spanwright/route/output"
+	"spanwright/route/plan"
+	"spanwright/route/site"
 )
 
 func checkCommand() *cli.Command {
@@ -38,34 +40,34 @@ func checkCommand() *cli.Command {
 	}
 }
 
-func runCheck(ctx context.Context, args []string, maxBytes int64, opt route.WriteOptions, w io.Writer) (err error) {
+func runCheck(ctx context.Context, args []string, maxBytes int64, opt output.WriteOptions, w io.Writer) (err error) {
 	defer func() {
 		if err != nil && ctx.Err() != nil && errors.Is(err, ctx.Err()) {
 			err = fmt.Errorf("stopped: %w", err)
 		}
 	}()
-	var site *route.Site
-	var p *route.Plan
+	var st *site.Site
+	var p *plan.Plan
 	hub := ""
 	if len(args) == 1 && (strings.HasSuffix(args[0], ".yaml") || strings.HasSuffix(args[0], ".yml")) {
-		if p, err = route.LoadPlanLimit(args[0], maxBytes); err != nil {
+		if p, err = plan.LoadPlanLimit(args[0], maxBytes); err != nil {
 			return err
 		}
-		site, err = route.LoadSite(ctx, nil, campusPaths(p), siteOptions(p))
+		st, err = site.Load(ctx, nil, campusPaths(p), siteOptions(p))
 		hub = p.Hub
 	} else {
-		site, err = route.LoadSite(ctx, nil, args, route.SiteOptions{SnapM: route.PlanDefaults.Design.SnapM,
-			MaxLateralM: route.PlanDefaults.Design.MaxLateralM, MaxInputBytes: maxBytes})
+		st, err = site.Load(ctx, nil, args, site.Options{SnapM: plan.Default.Design.SnapM,
+			MaxLateralM: plan.Default.Design.MaxLateralM, MaxInputBytes: maxBytes})
 	}
 	if err != nil {
 		return err
 	}
-	rep := site.Check(hub)
-	if err := rep.Print(w, opt); err != nil {
+	rep := st.Check(hub)
+	if err := output.PrintCheck(w, rep, opt); err != nil {
 		return err
 	}
 	if hub != "" && rep.Hub == "" {
-		_, err := site.Hub(p) // the plan's problem, at the hub's line
+		_, err := st.Hub(p) // the plan's problem, at the hub's line
 		return err
 	}
 	if len(rep.Unreachable) > 0 {
@@ -78,7 +80,7 @@ func runCheck(ctx context.Context, args []string, maxBytes int64, opt route.Writ
 	return nil
 }
 
-func campusPaths(p *route.Plan) []string {
+func campusPaths(p *plan.Plan) []string {
 	out := make([]string, len(p.Campus))
 	for i, f := range p.Campus {
 		out[i] = p.Path(f)
@@ -86,6 +88,6 @@ func campusPaths(p *route.Plan) []string {
 	return out
 }
 
-func siteOptions(p *route.Plan) route.SiteOptions {
-	return route.SiteOptions{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM, MaxInputBytes: p.MaxInputBytes}
+func siteOptions(p *plan.Plan) site.Options {
+	return site.Options{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM, MaxInputBytes: p.MaxInputBytes}
 }

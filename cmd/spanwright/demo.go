@@ -3,11 +3,11 @@ package main
 import (
 	"fmt"
 	"path"
+	"spanwright/route/plan"
 
 	"github.com/urfave/cli/v2"
 
 	"spanwright"
-	"spanwright/route"
 )
 
 func demoCommand() *cli.Command {
@@ -28,7 +28,7 @@ func demoCommand() *cli.Command {
 			if err != nil {
 				return fmt.Errorf("demo: %w", err)
 			}
-			p, err := route.ParsePlan(name, data)
+			p, err := plan.ParsePlan(name, data)
 			if err != nil {
 				return err
 			}

@@ -11,7 +11,7 @@ import (
 	"spanwright/geo"
 	"spanwright/geo/input"
 	"spanwright/media"
-	"spanwright/route"
+	"spanwright/route/plan"
 	"spanwright/route/sweep"
 )
 
@@ -36,7 +36,7 @@ func TestMessageShapes(t *testing.T) {
 		}
 		return []byte(strings.Replace(data, old, new, 1))
 	}
-	plan := func(text string) error { _, err := route.ParsePlan("plan.yaml", []byte(text)); return err }
+	plan := func(text string) error { _, err := plan.ParsePlan("plan.yaml", []byte(text)); return err }
 	// The sweep file sits beside the demo plan, its base.
 	sweepFile := filepath.Join("..", "..", "testdata", "demo", "x.yaml")
 	sweepText := func(text string) error {
@@ -111,7 +111,7 @@ func TestMessageShapes(t *testing.T) {
 	}
 }
 
-// goWords are the marks of Go in a message: a package-qualified identifier (route.Design),
+// goWords are the marks of Go in a message: a package-qualified identifier (plan.Design),
 // a Go type phrase ("in type", "into float64") or a YAML library tag (!!str).
 var goWords = regexp.MustCompile(`\b(route|media|geo|sweep|input|optimize|install|workbook|yaml|json)\.[A-Z]\w*|\btype [a-z]+\.|\binto (float|int|string|bool|\[\])|\b(float64|int64|\[\]string|map\[)|!!(str|int|float|bool|map|seq|null)\b|cannot unmarshal`)
 

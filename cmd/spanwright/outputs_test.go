@@ -11,7 +11,8 @@ import (
 	"testing"
 
 	"spanwright/geo/input"
-	"spanwright/route"
+	"spanwright/route/fileset"
+	"spanwright/route/plan"
 )
 
 // inputFolder copies the small test plan and its campus into a new folder, the campus under
@@ -92,16 +93,16 @@ func TestOutFolderHoldingInputs(t *testing.T) {
 
 // TestExitStatusEnvironment: what the machine refuses is status 4 with the place named; a
 // refused overwrite and an unknown command are status 2; 1 is left for bugs. Not parallel:
-// it sets route.WriteHook.
+// it sets fileset.WriteHook.
 func TestExitStatusEnvironment(t *testing.T) {
-	defer func() { route.WriteHook = nil }()
-	_, plan := inputFolder(t, "campus.geojson")
+	defer func() { fileset.WriteHook = nil }()
+	_, planFile := inputFolder(t, "campus.geojson")
 	file := filepath.Join(t.TempDir(), "a-file")
 	if err := os.WriteFile(file, nil, 0o644); err != nil {
 		t.Fatal(err)
 	}
 	sweepFile := filepath.Join(t.TempDir(), "s.yaml")
-	if err := os.WriteFile(sweepFile, []byte(fmt.Sprintf("base: %s\ncases: [{name: a}]\n", plan)), 0o644); err != nil {
+	if err := os.WriteFile(sweepFile, []byte(fmt.Sprintf("base: %s\ncases: [{name: a}]\n", planFile)), 0o644); err != nil {
 		t.Fatal(err)
 	}
 	fail := func(e error, name string) func(string, string) error {
@@ -119,16 +120,16 @@ func TestExitStatusEnvironment(t *testing.T) {
 		code int
 		want string
 	}{
-		{"disk full", fail(syscall.ENOSPC, "summary.json"), []string{"plan", plan, "--out", filepath.Join(t.TempDir(), "o")}, exitEnvironment, "summary.json: no space left on device"},
-		{"no permission", fail(fs.ErrPermission, "summary.json"), []string{"plan", plan, "--out", filepath.Join(t.TempDir(), "o")}, exitEnvironment, "summary.json: permission denied"},
-		{"out is a file", nil, []string{"plan", plan, "--out", file}, exitEnvironment, file + ": it is a file, not a folder"},
+		{"disk full", fail(syscall.ENOSPC, "summary.json"), []string{"plan", planFile, "--out", filepath.Join(t.TempDir(), "o")}, exitEnvironment, "summary.json: no space left on device"},
+		{"no permission", fail(fs.ErrPermission, "summary.json"), []string{"plan", planFile, "--out", filepath.Join(t.TempDir(), "o")}, exitEnvironment, "summary.json: permission denied"},
+		{"out is a file", nil, []string{"plan", planFile, "--out", file}, exitEnvironment, file + ": it is a file, not a folder"},
 		{"sweep out is a file", nil, []string{"sweep", sweepFile, "--quiet", "--out", file}, exitEnvironment, file + ": it is a file, not a folder"},
 		{"sweep disk full", fail(syscall.ENOSPC, "compare.md"), []string{"sweep", sweepFile, "--quiet", "--out", t.TempDir()}, exitEnvironment, "compare.md: no space left on device"},
 		{"sweep scenario disk full", fail(syscall.ENOSPC, "links.csv"), []string{"sweep", sweepFile, "--quiet", "--out", filepath.Join(t.TempDir(), "o")}, exitEnvironment, "o/a-e3b0c442/links.csv: no space left on device"},
-		{"unknown command", nil, []string{"plna", plan}, exitInvalid, `unknown command "plna"`},
+		{"unknown command", nil, []string{"plna", planFile}, exitInvalid, `unknown command "plna"`},
 	}
 	for _, tc := range cases {
-		route.WriteHook = tc.hook
+		fileset.WriteHook = tc.hook
 		_, msg, code := run(t, tc.args...)
 		if code != tc.code || !strings.Contains(msg, tc.want) {
 			t.Errorf("%s: status %d, %q; want %d, %q", tc.name, code, msg, tc.code, tc.want)
@@ -136,9 +137,9 @@ func TestExitStatusEnvironment(t *testing.T) {
 	}
 	// An input the loader cannot open: missing is the user's mistake, unreadable the machine's.
 	for errno, want := range map[syscall.Errno]int{syscall.ENOENT: exitInvalid, syscall.EACCES: exitEnvironment, syscall.EIO: exitEnvironment} {
-		err := &input.Problem{File: "p.yaml", Err: &fs.PathError{Op: "open", Path: "p.yaml", Err: errno}, Class: route.ErrPlan}
+		err := &input.Problem{File: "p.yaml", Err: &fs.PathError{Op: "open", Path: "p.yaml", Err: errno}, Class: plan.ErrPlan}
 		if code := exitCode(err); code != want {
-			t.Errorf("plan file %v: status %d, want %d", errno, code, want)
+			t.Errorf("planFile file %v: status %d, want %d", errno, code, want)
 		}
 	}
 	if code := exitCode(errors.New("index out of range")); code != exitInternal {

@@ -12,7 +12,11 @@ import (
 
 	"spanwright/route"
 	"spanwright/route/escape"
+	"spanwright/route/fileset"
+	"spanwright/route/output"
+	"spanwright/route/plan"
 	"spanwright/route/report"
+	"spanwright/route/site"
 )
 
 func planCommand() *cli.Command {
@@ -40,7 +44,7 @@ func planCommand() *cli.Command {
 			if err != nil {
 				return err
 			}
-			p, err := route.LoadPlanLimit(c.Args().First(), maxBytes)
+			p, err := plan.LoadPlanLimit(c.Args().First(), maxBytes)
 			if err != nil {
 				return err
 			}
@@ -53,13 +57,13 @@ func planCommand() *cli.Command {
 // runPlan plans p (its campus read from fsys when not nil) and writes the outputs to out.
 // When ctx is done before the outputs are renamed into place, it writes nothing and returns
 // an error wrapping ctx's.
-func runPlan(ctx context.Context, fsys fs.FS, p *route.Plan, out string, opt route.WriteOptions, w io.Writer) (err error) {
+func runPlan(ctx context.Context, fsys fs.FS, p *plan.Plan, out string, opt output.WriteOptions, w io.Writer) (err error) {
 	defer func() {
 		if err != nil && ctx.Err() != nil && errors.Is(err, ctx.Err()) {
 			err = fmt.Errorf("stopped, nothing written: %w", err)
 		}
 	}()
-	site, err := route.LoadSite(ctx, fsys, campusPaths(p), siteOptions(p))
+	site, err := site.Load(ctx, fsys, campusPaths(p), siteOptions(p))
 	if err != nil {
 		return err
 	}
@@ -69,7 +73,7 @@ func runPlan(ctx context.Context, fsys fs.FS, p *route.Plan, out string, opt rou
 		return err
 	}
 	stage(ctx, "planned")
-	files, err := res.Outputs(ctx, opt)
+	files, err := output.Files(ctx, res, opt)
 	if err != nil {
 		return err
 	}
@@ -77,10 +81,10 @@ func runPlan(ctx context.Context, fsys fs.FS, p *route.Plan, out string, opt rou
 	if err != nil {
 		return err
 	}
-	if err := route.WriteFiles(ctx, out, append(files, rep), res.Inputs()); err != nil {
+	if err := fileset.WriteFiles(ctx, out, append(files, rep), res.Inputs()); err != nil {
 		return err
 	}
-	if err := res.PrintSummary(w, opt); err != nil {
+	if err := output.PrintSummary(w, res, opt); err != nil {
 		return err
 	}
 	fmt.Fprintf(w, "outputs written to %s\n", escape.Terminal(out))
@@ -93,7 +97,7 @@ var stage = func(context.Context, string) {}
 
 // overrideFiles points the plan at the files named on the command line; they are relative
 // to the working folder, not to the plan.
-func overrideFiles(p *route.Plan, catalog, rules, prices string) {
+func overrideFiles(p *plan.Plan, catalog, rules, prices string) {
 	for _, o := range []struct {
 		flag string
 		dst  *string

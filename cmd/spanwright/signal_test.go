@@ -16,7 +16,7 @@ import (
 	"time"
 
 	"spanwright/geo/ctxtest"
-	"spanwright/route"
+	"spanwright/route/fileset"
 )
 
 // TestMain lets a test run the real main, signal handling included, in a child process: the
@@ -27,7 +27,7 @@ func TestMain(m *testing.M) {
 	if os.Getenv("SPANWRIGHT_AS_MAIN") == "1" {
 		if d, err := time.ParseDuration(os.Getenv("SPANWRIGHT_STEP_DELAY")); err == nil {
 			// Widen the window in which a kill finds the outputs half written.
-			route.WriteHook = func(string, string) error { time.Sleep(d); return nil }
+			fileset.WriteHook = func(string, string) error { time.Sleep(d); return nil }
 		}
 		if at := os.Getenv("SPANWRIGHT_TEST_STAGE"); at != "" {
 			// Say on stderr when runPlan reaches the stage, for the test to signal then.

@@ -16,8 +16,8 @@ import (
 	"github.com/urfave/cli/v2"
 	"golang.org/x/term"
 
-	"spanwright/route"
 	"spanwright/route/escape"
+	"spanwright/route/output"
 	"spanwright/route/report"
 	"spanwright/route/sweep"
 )
@@ -70,7 +70,7 @@ type sweepOptions struct {
 	quiet  bool
 	full   bool
 	shard  sweep.Shard
-	write  route.WriteOptions
+	write  output.WriteOptions
 	// maxBytes caps every input file, in bytes; 0 for the defaults
 	maxBytes int64
 }

@@ -8,8 +8,8 @@ import (
 	"strings"
 	"testing"
 
-	"spanwright/route"
 	"spanwright/route/internal/campusgen"
+	"spanwright/route/output"
 )
 
 // TestNewTrenchAgrees: new_trench_m in summary.json is the terminal's new trench and the sum of
@@ -35,7 +35,7 @@ func TestNewTrenchAgrees(t *testing.T) {
 			t.Errorf("summary.json new_trench_m %.1f, bill of materials %.1f m", sum.NewTrenchM, billM)
 		}
 		var term bytes.Buffer
-		if err := res.PrintSummary(&term, route.WriteOptions{Units: route.UnitsMetric}); err != nil {
+		if err := output.PrintSummary(&term, res, output.WriteOptions{Units: output.UnitsMetric}); err != nil {
 			t.Fatal(err)
 		}
 		if want := fmt.Sprintf("new trench %.1f m", sum.NewTrenchM); !strings.Contains(term.String(), want) {

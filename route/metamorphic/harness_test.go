@@ -17,7 +17,11 @@ import (
 
 	"spanwright/route"
 	"spanwright/route/internal/campusgen"
+	"spanwright/route/output"
+	"spanwright/route/plan"
 	"spanwright/route/report"
+	"spanwright/route/routing"
+	"spanwright/route/site"
 )
 
 // scenario is one generated campus with its plan.
@@ -61,11 +65,11 @@ func outputs(t *testing.T, sc scenario) (map[string][]byte, *route.Result) {
 	for name, data := range sc.files {
 		fsys[name] = &fstest.MapFile{Data: data}
 	}
-	p, err := route.ParsePlan("plan.yaml", []byte(sc.plan))
+	p, err := plan.ParsePlan("plan.yaml", []byte(sc.plan))
 	if err != nil {
 		t.Fatalf("seed %d: plan: %v", sc.seed, err)
 	}
-	site, err := route.LoadSite(context.Background(), fsys, p.Campus, route.SiteOptions{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM})
+	site, err := site.Load(context.Background(), fsys, p.Campus, site.Options{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM})
 	if err != nil {
 		t.Fatalf("seed %d: campus: %v", sc.seed, err)
 	}
@@ -73,11 +77,11 @@ func outputs(t *testing.T, sc scenario) (map[string][]byte, *route.Result) {
 	if err != nil {
 		t.Errorf("seed %d: solve: %v", sc.seed, err)
 	}
-	files, err := res.Outputs(context.Background(), route.WriteOptions{Units: route.UnitsMetric})
+	files, err := output.Files(context.Background(), res, output.WriteOptions{Units: output.UnitsMetric})
 	if err != nil {
 		t.Fatalf("seed %d: outputs: %v", sc.seed, err)
 	}
-	rep, err := report.File(context.Background(), res, report.Options{Units: route.UnitsMetric})
+	rep, err := report.File(context.Background(), res, report.Options{Units: output.UnitsMetric})
 	if err != nil {
 		t.Fatalf("seed %d: report: %v", sc.seed, err)
 	}
@@ -89,7 +93,7 @@ func outputs(t *testing.T, sc scenario) (map[string][]byte, *route.Result) {
 }
 
 // legKey names a leg by its link and leg name.
-func legKey(l *route.Leg) string { return l.Link.ID + "/" + l.Name }
+func legKey(l *routing.Leg) string { return l.Link.ID + "/" + l.Name }
 
 // verdicts is each leg's feasibility and medium.
 func verdicts(res *route.Result) map[string]string {

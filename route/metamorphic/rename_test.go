@@ -9,6 +9,7 @@ import (
 	"testing"
 
 	"spanwright/route/internal/campusgen"
+	"spanwright/route/output"
 )
 
 // TestRenameIDs: renaming every building, pathway and structure id (the hub, links and
@@ -67,7 +68,7 @@ func TestRenameIDs(t *testing.T) {
 					t.Errorf("trial %d: leg %s: got %s, want %s", trial, key, got, want[key])
 				}
 			}
-			a, b := base.Summarize(), res.Summarize()
+			a, b := output.Summarize(base), output.Summarize(res)
 			if a.Infeasible != b.Infeasible {
 				t.Errorf("trial %d: infeasible legs %d → %d", trial, a.Infeasible, b.Infeasible)
 			}

@@ -9,6 +9,8 @@ import (
 
 	"spanwright/route"
 	"spanwright/route/internal/campusgen"
+	"spanwright/route/plan"
+	"spanwright/route/site"
 	"spanwright/route/sweep"
 )
 
@@ -45,11 +47,11 @@ func generated(b *testing.B, n int) *route.Result {
 	if err := os.WriteFile(filepath.Join(dir, "campus.geojson"), campusgen.GeoJSON(c.Features), 0o644); err != nil {
 		b.Fatal(err)
 	}
-	p, err := route.ParsePlan(filepath.Join(dir, "plan.yaml"), []byte(fmt.Sprintf("name: generated\ncampus: [campus.geojson]\nhub: %s\n", c.Hub)))
+	p, err := plan.ParsePlan(filepath.Join(dir, "plan.yaml"), []byte(fmt.Sprintf("name: generated\ncampus: [campus.geojson]\nhub: %s\n", c.Hub)))
 	if err != nil {
 		b.Fatal(err)
 	}
-	site, err := route.LoadSite(context.Background(), nil, []string{filepath.Join(dir, "campus.geojson")}, route.SiteOptions{})
+	site, err := site.Load(context.Background(), nil, []string{filepath.Join(dir, "campus.geojson")}, site.Options{})
 	if err != nil {
 		b.Fatal(err)
 	}

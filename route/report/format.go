@@ -1,20 +1,19 @@
 package report
 
 import (
+	"spanwright/route/output"
 	"strconv"
 	"strings"
-
-	"spanwright/route"
 )
 
 // Options say how a report is rendered.
 type Options struct {
-	// Units is route.UnitsMetric (default) or route.UnitsImperial: lengths in the report's
+	// Units is output.UnitsMetric (default) or output.UnitsImperial: lengths in the report's
 	// text, tables and scale bar. Losses stay in dB and fill in mm².
 	Units string
 }
 
-func (o Options) imperial() bool { return o.Units == route.UnitsImperial }
+func (o Options) imperial() bool { return o.Units == output.UnitsImperial }
 
 // lengthUnit is the unit lengths are shown in.
 func (o Options) lengthUnit() string {
@@ -27,7 +26,7 @@ func (o Options) lengthUnit() string {
 // length formats metres in the report's unit with one decimal and thousands separators.
 func (o Options) length(m float64) string {
 	if o.imperial() {
-		m *= route.FtPerM
+		m *= output.FtPerM
 	}
 	return group(strconv.FormatFloat(m, 'f', 1, 64))
 }

@@ -9,6 +9,8 @@ import (
 
 	"spanwright/geo"
 	"spanwright/route"
+	"spanwright/route/output"
+	"spanwright/route/routing"
 )
 
 // Map drawing sizes, in SVG pixels.
@@ -245,7 +247,7 @@ func buildMap(ctx context.Context, r *route.Result, opt Options, med map[string]
 			return mapView{}, fmt.Errorf("report: map of %s %s: %w", l.Link.ID, l.Name, err)
 		}
 		px := p.line(coords(ls))
-		if l.Name == route.LegDiverse {
+		if l.Name == routing.LegDiverse {
 			px = offsetLine(px, diverseOffsetPx)
 		}
 		d := pathD(px)
@@ -277,7 +279,7 @@ func buildMap(ctx context.Context, r *route.Result, opt Options, med map[string]
 func newScaleBar(p *projection, opt Options) scaleBar {
 	unitM := 1.0
 	if opt.imperial() {
-		unitM = 1 / route.FtPerM
+		unitM = 1 / output.FtPerM
 	}
 	targetPx := p.widthPx / 5
 	length := niceLength(targetPx / p.pxPerM / unitM) // in display units

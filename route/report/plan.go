@@ -14,7 +14,11 @@ import (
 	"spanwright/media/install"
 	"spanwright/route"
 	"spanwright/route/escape"
+	"spanwright/route/estimate"
+	"spanwright/route/fileset"
 	"spanwright/route/internal/ctxio"
+	"spanwright/route/output"
+	"spanwright/route/routing"
 )
 
 // FileName is the plan report's file name in a plan's output folder.
@@ -160,7 +164,7 @@ type planView struct {
 	CSS        template.CSS
 	Unit       string
 	Currency   string
-	S          route.Summary
+	S          output.Summary
 	Hub        string
 	HubName    string
 	Feasible   int
@@ -237,23 +241,23 @@ func Plan(ctx context.Context, r *route.Result, opt Options) ([]byte, error) {
 const legCheckEvery = 64
 
 // File renders the plan report as an output file named FileName.
-func File(ctx context.Context, r *route.Result, opt Options) (route.OutputFile, error) {
+func File(ctx context.Context, r *route.Result, opt Options) (fileset.OutputFile, error) {
 	data, err := Plan(ctx, r, opt)
 	if err != nil {
-		return route.OutputFile{}, err
+		return fileset.OutputFile{}, err
 	}
-	return route.OutputFile{Name: FileName, Data: data}, nil
+	return fileset.OutputFile{Name: FileName, Data: data}, nil
 }
 
 // Extra returns a hook for route/sweep's Options.Extra that adds the plan report to each
 // scenario's folder.
-func Extra(opt Options) func(context.Context, *route.Result) ([]route.OutputFile, error) {
-	return func(ctx context.Context, r *route.Result) ([]route.OutputFile, error) {
+func Extra(opt Options) func(context.Context, *route.Result) ([]fileset.OutputFile, error) {
+	return func(ctx context.Context, r *route.Result) ([]fileset.OutputFile, error) {
 		f, err := File(ctx, r, opt)
 		if err != nil {
 			return nil, err
 		}
-		return []route.OutputFile{f}, nil
+		return []fileset.OutputFile{f}, nil
 	}
 }
 
@@ -262,7 +266,7 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 	if r.Engine != nil {
 		cat = r.Engine.Catalog()
 	}
-	s := r.Summarize()
+	s := output.Summarize(r)
 	v := &planView{S: s, Unit: opt.lengthUnit(), Currency: r.Currency, Hub: r.Hub}
 	v.Title = "Backbone plan: " + s.Scenario
 	if s.Scenario == "" {
@@ -486,7 +490,7 @@ func mediaRows(r *route.Result, opt Options, med map[string]mediumInfo, order []
 	return out
 }
 
-// wavelengths lists the loss columns: route.Wavelengths at which some leg has a loss.
+// wavelengths lists the loss columns: routing.Wavelengths at which some leg has a loss.
 func wavelengths(r *route.Result) []int {
 	have := map[int]bool{}
 	for _, l := range r.Legs {
@@ -495,7 +499,7 @@ func wavelengths(r *route.Result) []int {
 		}
 	}
 	var out []int
-	for _, nm := range route.Wavelengths {
+	for _, nm := range routing.Wavelengths {
 		if have[nm] {
 			out = append(out, nm)
 		}
@@ -586,7 +590,7 @@ func legRows(r *route.Result, opt Options, med map[string]mediumInfo, names map[
 // limit (tunnel, tray, aerial, buried, proposed trench).
 func fillRows(r *route.Result) ([]fillRow, int, int) {
 	type f struct {
-		route.SegmentFill
+		routing.SegmentFill
 		ratio float64
 	}
 	var list []f
@@ -705,9 +709,9 @@ func legendOf(r *route.Result, med map[string]mediumInfo, order []string) legend
 // ductRows lists the fill of every duct that holds cable on a span of limited capacity:
 // ducts over the NFPA 70 Chapter 9 Table 1 fill or at risk of a jam first, then by fill
 // relative to its limit, then by span and duct.
-func ductRows(fs []route.DuctFill) ([]ductRow, int) {
-	list := append([]route.DuctFill(nil), fs...)
-	ratio := func(f route.DuctFill) float64 {
+func ductRows(fs []estimate.DuctFill) ([]ductRow, int) {
+	list := append([]estimate.DuctFill(nil), fs...)
+	ratio := func(f estimate.DuctFill) float64 {
 		if f.AllowedPct <= 0 {
 			return 0
 		}
@@ -763,8 +767,8 @@ func ductRows(fs []route.DuctFill) ([]ductRow, int) {
 // pullRows lists every pull section: those over the cable's rated tension first, then by
 // tension relative to the rating, then in leg order.
 func pullRows(r *route.Result, opt Options) ([]pullRow, int) {
-	ps := append([]route.PullSection(nil), r.Estimate.Pulls...)
-	ratio := func(p route.PullSection) float64 {
+	ps := append([]estimate.PullSection(nil), r.Estimate.Pulls...)
+	ratio := func(p estimate.PullSection) float64 {
 		if p.RatedN <= 0 {
 			return 0
 		}

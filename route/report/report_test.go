@@ -12,6 +12,9 @@ import (
 
 	"spanwright/media"
 	"spanwright/route"
+	"spanwright/route/output"
+	"spanwright/route/plan"
+	"spanwright/route/site"
 )
 
 const (
@@ -32,7 +35,7 @@ func result(t *testing.T, path string) *route.Result {
 	if r, ok := solved[path]; ok {
 		return r
 	}
-	p, err := route.LoadPlan(path)
+	p, err := plan.LoadPlan(path)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -40,7 +43,7 @@ func result(t *testing.T, path string) *route.Result {
 	for _, c := range p.Campus {
 		files = append(files, p.Path(c))
 	}
-	site, err := route.LoadSite(context.Background(), nil, files, route.SiteOptions{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM})
+	site, err := site.Load(context.Background(), nil, files, site.Options{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -169,7 +172,7 @@ func TestPlanSelfContained(t *testing.T) {
 func TestPlanContent(t *testing.T) {
 	r := result(t, demoPlan)
 	html := render(t, demoPlan, Options{})
-	s := r.Summarize()
+	s := output.Summarize(r)
 	for _, want := range []string{
 		"<h2>Summary</h2>", "<h2>Map</h2>", "<h2>Links</h2>", "<h2>Pull sections</h2>", "<h2>Duct fill</h2>",
 		"<h2>Warnings</h2>", "<h2>Safety</h2>", "<h2>Sources of the standard values</h2>",
@@ -210,7 +213,7 @@ func TestPlanContent(t *testing.T) {
 
 // TestPlanImperial shows lengths in feet (1 ft = 0.3048 m exactly).
 func TestPlanImperial(t *testing.T) {
-	html := render(t, demoPlan, Options{Units: route.UnitsImperial})
+	html := render(t, demoPlan, Options{Units: output.UnitsImperial})
 	// 13 775.6 m / 0.3048 = 45 195.5 ft.
 	if !strings.Contains(html, "45,195.5 ft") {
 		t.Error("imperial report lacks the total route in feet")
@@ -223,11 +226,11 @@ func TestPlanImperial(t *testing.T) {
 // TestPlanDeterministic renders the demo twice from two solves: same bytes.
 func TestPlanDeterministic(t *testing.T) {
 	a := render(t, demoPlan, Options{})
-	p, err := route.LoadPlan(demoPlan)
+	p, err := plan.LoadPlan(demoPlan)
 	if err != nil {
 		t.Fatal(err)
 	}
-	site, err := route.LoadSite(context.Background(), nil, []string{p.Path(p.Campus[0])}, route.SiteOptions{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM})
+	site, err := site.Load(context.Background(), nil, []string{p.Path(p.Campus[0])}, site.Options{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -320,7 +323,7 @@ func TestScaleBar(t *testing.T) {
 		units  string
 		perM   float64
 		suffix string
-	}{{route.UnitsMetric, 1, " m"}, {route.UnitsImperial, route.FtPerM, " ft"}} {
+	}{{output.UnitsMetric, 1, " m"}, {output.UnitsImperial, output.FtPerM, " ft"}} {
 		sb := newScaleBar(p, Options{Units: tc.units})
 		if !strings.HasSuffix(sb.Label, tc.suffix) {
 			t.Fatalf("%s: label %q", tc.units, sb.Label)
@@ -382,7 +385,7 @@ func TestFormat(t *testing.T) {
 		{dB(-1.5), "−1.50"},
 		{num(-0.04), "0.0"},
 		{Options{}.lengthU(1234.56), "1,234.6 m"},
-		{Options{Units: route.UnitsImperial}.lengthU(30.48), "100.0 ft"}, // 1 ft = 0.3048 m exactly
+		{Options{Units: output.UnitsImperial}.lengthU(30.48), "100.0 ft"}, // 1 ft = 0.3048 m exactly
 	}
 	for i, tc := range cases {
 		if tc.got != tc.want {

@@ -8,8 +8,8 @@ import (
 	"sort"
 	"strconv"
 
-	"spanwright/route"
 	"spanwright/route/escape"
+	"spanwright/route/fileset"
 	"spanwright/route/sweep"
 )
 
@@ -91,12 +91,12 @@ func Sweep(c *sweep.Comparison, opt SweepOptions) ([]byte, error) {
 // SweepFiles renders the sweep report as the output file SweepFileName; it suits
 // sweep.Options.Compare and sweep.Merge.
 func SweepFiles(opt SweepOptions) sweep.CompareFunc {
-	return func(c *sweep.Comparison) ([]route.OutputFile, error) {
+	return func(c *sweep.Comparison) ([]fileset.OutputFile, error) {
 		data, err := Sweep(c, opt)
 		if err != nil {
 			return nil, err
 		}
-		return []route.OutputFile{{Name: SweepFileName, Data: data}}, nil
+		return []fileset.OutputFile{{Name: SweepFileName, Data: data}}, nil
 	}
 }
 

@@ -8,17 +8,16 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"spanwright/route/fileset"
 	"strings"
 	"syscall"
 	"testing"
-
-	"spanwright/route"
 )
 
 // reportTagged stands in for the HTML comparison report: one file that says which run wrote it.
 func reportTagged(tag string) CompareFunc {
-	return func(c *Comparison) ([]route.OutputFile, error) {
-		return []route.OutputFile{{Name: "compare.html", Data: []byte(tag)}}, nil
+	return func(c *Comparison) ([]fileset.OutputFile, error) {
+		return []fileset.OutputFile{{Name: "compare.html", Data: []byte(tag)}}, nil
 	}
 }
 
@@ -52,17 +51,17 @@ func stepsIn(dir string, steps *[]string) func(step, path string) error {
 // TestComparisonIsOneSet: the sweep and the merge write the rows file, compare.csv, .md,
 // .xlsx and the report together: every file before the commit, then the renames.
 func TestComparisonIsOneSet(t *testing.T) {
-	defer func() { route.WriteHook = nil }()
+	defer func() { fileset.WriteHook = nil }()
 	f := load(t, "small.yaml")
 	out := t.TempDir()
 	var steps []string
-	route.WriteHook = stepsIn(out, &steps)
+	fileset.WriteHook = stepsIn(out, &steps)
 	if _, err := Run(context.Background(), f, Options{Out: out, Jobs: 2, Compare: reportTagged("sweep")}); err != nil {
 		t.Fatal(err)
 	}
 	merged := filepath.Join(t.TempDir(), "merged")
 	var mergeSteps []string
-	route.WriteHook = stepsIn(merged, &mergeSteps)
+	fileset.WriteHook = stepsIn(merged, &mergeSteps)
 	if _, err := Merge([]string{out}, merged, reportTagged("sweep")); err != nil {
 		t.Fatal(err)
 	}
@@ -92,7 +91,7 @@ func TestComparisonIsOneSet(t *testing.T) {
 // disk does: the error says so, and the folder keeps the previous comparison, every file the
 // same file as before, with no new file and no journal left.
 func TestComparisonDiskFull(t *testing.T) {
-	defer func() { route.WriteHook = nil }()
+	defer func() { fileset.WriteHook = nil }()
 	f := load(t, "small.yaml")
 	out := t.TempDir()
 	if _, err := Run(context.Background(), f, Options{Out: out, Jobs: 2, Compare: reportTagged("old")}); err != nil {
@@ -111,7 +110,7 @@ func TestComparisonDiskFull(t *testing.T) {
 	for _, merge := range []bool{false, true} {
 		for n := 1; n <= len(comparisonFiles); n++ {
 			seen := 0
-			route.WriteHook = func(step, path string) error {
+			fileset.WriteHook = func(step, path string) error {
 				if step == "write" && filepath.Dir(path) == out {
 					if seen++; seen == n {
 						return syscall.ENOSPC
@@ -125,8 +124,8 @@ func TestComparisonDiskFull(t *testing.T) {
 			} else {
 				_, err = Run(context.Background(), f, Options{Out: out, Jobs: 2, Resume: true, Compare: reportTagged("new")})
 			}
-			route.WriteHook = nil
-			var oe *route.OutputError
+			fileset.WriteHook = nil
+			var oe *fileset.OutputError
 			if !errors.As(err, &oe) || !errors.Is(err, syscall.ENOSPC) {
 				t.Fatalf("merge=%v, file %d failing: got %v, want an OutputError for a full disk", merge, n, err)
 			}
@@ -180,7 +179,7 @@ func TestKilledComparisonRolledForward(t *testing.T) {
 			}
 		}
 		var steps []string
-		route.WriteHook = func(step, path string) error {
+		fileset.WriteHook = func(step, path string) error {
 			if filepath.Dir(path) == out && step == "rename" && !strings.Contains(strings.Join(steps, ","), "commit") {
 				steps = append(steps, "recovered "+filepath.Base(path))
 			}
@@ -190,7 +189,7 @@ func TestKilledComparisonRolledForward(t *testing.T) {
 			return nil
 		}
 		_, err := Run(context.Background(), f, Options{Out: out, Jobs: 2, Resume: true, Compare: reportTagged("new")})
-		route.WriteHook = nil
+		fileset.WriteHook = nil
 		if err != nil {
 			t.Fatal(err)
 		}

@@ -8,8 +8,8 @@ import (
 	"strconv"
 	"strings"
 
-	"spanwright/route"
 	"spanwright/route/escape"
+	"spanwright/route/fileset"
 	"spanwright/route/workbook"
 )
 
@@ -274,7 +274,7 @@ func currencyOf(rows []Row) string {
 // second sheet of totals as formulas; compare.md the same as a Markdown table. Text from the
 // sweep (ids, case names, values, errors) is escaped for each file by package escape: no CSV
 // cell begins a formula, no Markdown text forms markup, hidden characters show as "<U+202E>".
-func Compare(rows []Row, keys []string) ([]route.OutputFile, error) {
+func Compare(rows []Row, keys []string) ([]fileset.OutputFile, error) {
 	js := judge(rows)
 	cur := currencyOf(rows)
 	csvData, err := compareCSV(js, keys)
@@ -286,7 +286,7 @@ func Compare(rows []Row, keys []string) ([]route.OutputFile, error) {
 		return nil, err
 	}
 	md := compareMD(js, keys, cur)
-	return []route.OutputFile{
+	return []fileset.OutputFile{
 		{Name: CompareCSV, Data: csvData},
 		{Name: CompareMD, Data: md},
 		{Name: CompareXLSX, Data: xlsx},

@@ -51,7 +51,7 @@
 //	<id>/plan.yaml       the scenario's plan; `spanwright plan <id>/plan.yaml` re-plans it
 //	<id>/inputs.sha256   SHA-256 of plan.yaml and of every file it reads, in the format of GNU
 //	                     sha256sum, so `sha256sum -c inputs.sha256` in the folder checks them
-//	<id>/routes.geojson, links.csv, summary.json, …   the plan's outputs (route.Result.Outputs,
+//	<id>/routes.geojson, links.csv, summary.json, …   the plan's outputs (output.Files,
 //	                     and Options.Extra)
 //	<id>/error.txt       for a failed scenario, instead of the outputs: why it failed
 //	rows.jsonl           one JSON object per scenario (a header line first), in index order

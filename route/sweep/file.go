@@ -14,7 +14,7 @@ import (
 	"go.yaml.in/yaml/v3"
 
 	"spanwright/geo/input"
-	"spanwright/route"
+	"spanwright/route/plan"
 )
 
 // File is a parsed sweep file: a base plan and the alternatives to plan from it.
@@ -87,7 +87,7 @@ type sweepFile struct {
 func parse(name string, data []byte, maxBytes int64) (*File, error) {
 	f := &File{Path: name, Dir: filepath.Dir(name), MaxInputBytes: maxBytes}
 	var errs input.Problems
-	dec := &input.Decoder{File: name, Problems: &errs, Class: ErrInvalid, RangeOf: route.SettingRange}
+	dec := &input.Decoder{File: name, Problems: &errs, Class: ErrInvalid, RangeOf: plan.SettingRange}
 	bad := func(n *yaml.Node, item, key string, err error) {
 		line, col := 0, 0
 		if n != nil {
@@ -408,7 +408,7 @@ func (o Override) slugPart() string {
 		return leaf
 	case o.canon == "false":
 		return "no-" + leaf
-	case o.set.typ == reflect.TypeOf(route.Money(0)):
+	case o.set.typ == reflect.TypeOf(plan.Money(0)):
 		c, _ := strconv.ParseInt(o.canon, 10, 64)
 		return strings.TrimSuffix(money(c), ".00")
 	case o.set.typ.Kind() != reflect.String:

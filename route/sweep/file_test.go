@@ -14,7 +14,7 @@ import (
 	"go.yaml.in/yaml/v3"
 
 	"spanwright/geo/input"
-	"spanwright/route"
+	"spanwright/route/plan"
 )
 
 const fixtures = "../../testdata/sweep"
@@ -231,28 +231,28 @@ func TestLoadRefusesUnboundedInput(t *testing.T) {
 	}
 }
 
-// TestApply checks the plan a scenario's overrides make, read back with route.ParsePlan.
+// TestApply checks the plan a scenario's overrides make, read back with plan.ParsePlan.
 func TestApply(t *testing.T) {
 	t.Parallel()
 	base := "name: p\ncampus: [c.geojson]\nhub: ADM\ndesign: {snap_m: 0.5}\n"
 	cases := []struct {
 		name  string
 		cases string
-		check func(p *route.Plan) string
+		check func(p *plan.Plan) string
 	}{
-		{"nested key set", "{name: a, design.snap_m: 2, defaults.rate: 25G}", func(p *route.Plan) string {
-			if p.Design.SnapM != 2 || p.Defaults.Rate != "25G" || p.Design.MaxLateralM != route.PlanDefaults.Design.MaxLateralM {
+		{"nested key set", "{name: a, design.snap_m: 2, defaults.rate: 25G}", func(p *plan.Plan) string {
+			if p.Design.SnapM != 2 || p.Defaults.Rate != "25G" || p.Design.MaxLateralM != plan.Default.Design.MaxLateralM {
 				return "design and defaults not set"
 			}
 			return ""
 		}},
-		{"null removes", "{name: a, hub: ~}", func(p *route.Plan) string {
+		{"null removes", "{name: a, hub: ~}", func(p *plan.Plan) string {
 			if p.Hub != "" {
 				return "hub kept: " + p.Hub
 			}
 			return ""
 		}},
-		{"file relative to the sweep file", "{name: a, prices: sub/p.yaml, campus: [x.geojson, y.geojson]}", func(p *route.Plan) string {
+		{"file relative to the sweep file", "{name: a, prices: sub/p.yaml, campus: [x.geojson, y.geojson]}", func(p *plan.Plan) string {
 			if p.Path(p.Prices) != filepath.Join("sweepdir", "sub", "p.yaml") {
 				return "prices at " + p.Path(p.Prices)
 			}
@@ -261,7 +261,7 @@ func TestApply(t *testing.T) {
 			}
 			return ""
 		}},
-		{"base file relative to the base", "{name: a, hub: ENG}", func(p *route.Plan) string {
+		{"base file relative to the base", "{name: a, hub: ENG}", func(p *plan.Plan) string {
 			if p.Path(p.Campus[0]) != filepath.Join("plandir", "c.geojson") {
 				return "campus at " + p.Path(p.Campus[0])
 			}
@@ -286,7 +286,7 @@ func TestApply(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			p, err := route.ParsePlan(filepath.Join(dir, "out", "x", PlanFile), data)
+			p, err := plan.ParsePlan(filepath.Join(dir, "out", "x", PlanFile), data)
 			if err != nil {
 				t.Fatalf("%s: %v\n%s", tc.name, err, data)
 			}

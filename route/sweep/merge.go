@@ -7,9 +7,8 @@ import (
 	"os"
 	"path/filepath"
 	"reflect"
+	"spanwright/route/fileset"
 	"strings"
-
-	"spanwright/route"
 )
 
 // ErrMerge is wrapped by Merge's error when the rows files given do not make one whole sweep.
@@ -19,7 +18,7 @@ var ErrMerge = errors.New("merge")
 // sweep, or of a whole sweep) into one comparison written to out: the same compare.csv,
 // compare.xlsx, compare.md, rows.jsonl and more's files (when more is not nil), byte for
 // byte, as the unsharded sweep writes with Options.Compare set to more; all of them in one
-// set (route.CommitFiles).
+// set (fileset.CommitFiles).
 // Scenario folders stay where the shards wrote them. It fails, writing nothing, when the rows
 // come from different sweeps, when two rows files disagree about a scenario, or when a
 // scenario is missing (naming the missing indexes and the shards that hold them).
@@ -34,7 +33,7 @@ func Merge(dirs []string, out string, more CompareFunc) (*Report, error) {
 	nfiles := 0
 	for _, d := range dirs {
 		// A shard killed while putting its rows file in place left a journal: finish it.
-		if err := route.RecoverFiles(d); err != nil {
+		if err := fileset.RecoverFiles(d); err != nil {
 			return nil, fmt.Errorf("merge: %w", err)
 		}
 		files, err := findRows(d)
@@ -109,7 +108,7 @@ func Merge(dirs []string, out string, more CompareFunc) (*Report, error) {
 			protect = append(protect, p)
 		}
 	}
-	if err := route.CommitFiles(context.Background(), out, files, protect); err != nil {
+	if err := fileset.CommitFiles(context.Background(), out, files, protect); err != nil {
 		return nil, err
 	}
 	rep := &Report{Scenarios: head.Scenarios, Run: head.Scenarios}

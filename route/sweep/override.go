@@ -13,7 +13,7 @@ import (
 	"go.yaml.in/yaml/v3"
 
 	"spanwright/geo/input"
-	"spanwright/route"
+	"spanwright/route/plan"
 )
 
 // pathKeys are the plan settings that name files; in a sweep file their values are relative
@@ -27,12 +27,12 @@ type setting struct {
 }
 
 // settings returns the overridable plan settings by dotted key: every top-level key of
-// route.Plan except links, and every key of its nested sections (defaults.*, design.*). It is
-// read from route.Plan's YAML tags, so a setting the plan gains can be varied at once.
+// plan.Plan except links, and every key of its nested sections (defaults.*, design.*). It is
+// read from plan.Plan's YAML tags, so a setting the plan gains can be varied at once.
 var settings = sync.OnceValue(func() map[string]setting {
 	out := map[string]setting{}
-	moneyT := reflect.TypeOf(route.Money(0))
-	t := reflect.TypeOf(route.Plan{})
+	moneyT := reflect.TypeOf(plan.Money(0))
+	t := reflect.TypeOf(plan.Plan{})
 	for i := 0; i < t.NumField(); i++ {
 		f := t.Field(i)
 		key := yamlKey(f)
@@ -128,7 +128,7 @@ func parseOverride(key string, v *yaml.Node) (Override, error) {
 	// same walker, with the same messages.
 	ptr := reflect.New(st.typ)
 	var probs input.Problems
-	(&input.Decoder{Problems: &probs, RangeOf: route.SettingRange}).DecodeAt(v, ptr.Interface(), "", key)
+	(&input.Decoder{Problems: &probs, RangeOf: plan.SettingRange}).DecodeAt(v, ptr.Interface(), "", key)
 	if len(probs.List) > 0 {
 		return Override{}, &input.Problem{Value: probs.List[0].Value, Err: probs.List[0].Err}
 	}

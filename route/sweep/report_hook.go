@@ -4,8 +4,7 @@ import (
 	"bytes"
 	"fmt"
 	"path/filepath"
-
-	"spanwright/route"
+	"spanwright/route/fileset"
 )
 
 // Judged is one scenario of a finished sweep with what the comparison works out across
@@ -62,7 +61,7 @@ func ReadComparison(dir string) (*Comparison, error) {
 
 // CompareFunc renders more comparison files (a report) from a finished sweep's comparison;
 // see Options.Compare and Merge.
-type CompareFunc func(*Comparison) ([]route.OutputFile, error)
+type CompareFunc func(*Comparison) ([]fileset.OutputFile, error)
 
 // judgeEncoded judges the rows of an encoded rows file, as ReadComparison would after
 // reading it back: the comparison files a merge renders from the shards' rows files are then

@@ -14,7 +14,7 @@ import (
 	"strings"
 
 	"spanwright/geo/input"
-	"spanwright/route"
+	"spanwright/route/output"
 )
 
 // Scenario statuses.
@@ -56,7 +56,7 @@ func newRow(sc Scenario) Row {
 }
 
 // fill copies the plan summary's figures into the row and sets its status.
-func (r *Row) fill(s route.Summary) {
+func (r *Row) fill(s output.Summary) {
 	r.Currency = s.Currency
 	r.TotalCents, r.BudgetCents, r.OverBudgetCents = s.TotalCents, s.BudgetCents, s.OverBudgetCents
 	r.InfeasibleLegs = s.Infeasible

@@ -22,6 +22,10 @@ import (
 	"spanwright/media"
 	"spanwright/route"
 	"spanwright/route/escape"
+	"spanwright/route/fileset"
+	"spanwright/route/output"
+	"spanwright/route/plan"
+	"spanwright/route/site"
 )
 
 // Files every planned scenario folder holds besides the plan's outputs.
@@ -68,11 +72,11 @@ type Options struct {
 	Jobs   int    // scenarios planned at once; 0 or less means runtime.NumCPU()
 	Resume bool   // skip scenarios whose outputs exist and whose inputs are unchanged
 	Shard  Shard  // the part of the sweep to run; zero for all
-	Write  route.WriteOptions
+	Write  output.WriteOptions
 	// Extra, when not nil, renders more files for a planned scenario's folder (a report, a
 	// bill of materials); an error fails that scenario. ctx is the run's: when it is done,
 	// Extra should return soon, and its answer is not used.
-	Extra func(ctx context.Context, r *route.Result) ([]route.OutputFile, error)
+	Extra func(ctx context.Context, r *route.Result) ([]fileset.OutputFile, error)
 	// Progress, when not nil, is called after each scenario of the run, one call at a time.
 	Progress func(Progress)
 	// Compare, when not nil, renders more comparison files (a report) for a whole sweep;
@@ -130,7 +134,7 @@ func (r *Report) count(row Row) {
 // scenario named by its id, then the rows file and, for a whole sweep, the comparison (see
 // Compare, and opt.Compare's files). Scenario folders appear whole or not at all: each is
 // written under a temporary name and renamed into place. The rows file and the comparison are
-// rendered in memory and written as one set with route.CommitFiles: a full disk leaves none of
+// rendered in memory and written as one set with fileset.CommitFiles: a full disk leaves none of
 // them and the previous set whole; a sweep killed while renaming them into place leaves a
 // journal that the next run in the folder rolls forward first. A scenario that fails is
 // recorded in its row and the sweep goes on; the returned error is only for what stops the
@@ -158,7 +162,7 @@ func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
 	if err != nil {
 		return nil, err
 	}
-	if err := route.CheckOverwrite(opt.Out, names, r.protect); err != nil {
+	if err := fileset.CheckOverwrite(opt.Out, names, r.protect); err != nil {
 		return nil, err
 	}
 	rows, err := r.runAll(ctx, mine)
@@ -181,7 +185,7 @@ func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
 	// Never replace the sweep file, the base plan or any file a scenario read (the hash
 	// cache holds every one, by absolute path).
 	protect := append(append([]string(nil), r.protect...), r.hashes.c.Keys()...)
-	if err := route.CommitFiles(ctx, opt.Out, files, protect); err != nil {
+	if err := fileset.CommitFiles(ctx, opt.Out, files, protect); err != nil {
 		return rep, err
 	}
 	for _, o := range files {
@@ -191,19 +195,19 @@ func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
 }
 
 // renderRun renders the rows file and, for a whole sweep, the comparison and more's files.
-func renderRun(h rowsHeader, rows []Row, sh Shard, more CompareFunc) ([]route.OutputFile, error) {
+func renderRun(h rowsHeader, rows []Row, sh Shard, more CompareFunc) ([]fileset.OutputFile, error) {
 	data, err := encodeRows(h, rows)
 	if err != nil {
 		return nil, err
 	}
 	if !sh.Whole() {
-		return []route.OutputFile{{Name: shardRowsFile(sh), Data: data}}, nil
+		return []fileset.OutputFile{{Name: shardRowsFile(sh), Data: data}}, nil
 	}
 	files, err := Compare(rows, h.Keys)
 	if err != nil {
 		return nil, err
 	}
-	files = append(files, route.OutputFile{Name: RowsFile, Data: data})
+	files = append(files, fileset.OutputFile{Name: RowsFile, Data: data})
 	if more == nil {
 		return files, nil
 	}
@@ -224,7 +228,7 @@ type runner struct {
 	out     string // output folder, as given
 	absOut  string
 	protect []string
-	sites   onceCache[*route.Site]
+	sites   onceCache[*site.Site]
 	engines onceCache[*media.Engine]
 	hashes  onceCache[string]
 	// rebaseSweep and rebaseBase turn a file name relative to the sweep file's folder, or to
@@ -259,13 +263,13 @@ func newRunner(f *File, opt Options) (*runner, error) {
 		return nil, fmt.Errorf("output folder: %w", err)
 	}
 	if info, err := os.Stat(out); err == nil && !info.IsDir() {
-		return nil, &route.OutputError{Path: opt.Out, Err: errors.New("it is a file, not a folder")}
+		return nil, &fileset.OutputError{Path: opt.Out, Err: errors.New("it is a file, not a folder")}
 	}
 	if err := os.MkdirAll(out, 0o755); err != nil {
-		return nil, &route.OutputError{Path: opt.Out, Err: err}
+		return nil, &fileset.OutputError{Path: opt.Out, Err: err}
 	}
 	// A sweep killed while putting its comparison in place left a journal: finish it first.
-	if err := route.RecoverFiles(out); err != nil {
+	if err := fileset.RecoverFiles(out); err != nil {
 		return nil, err
 	}
 	sweepDir, err := filepath.Abs(f.Dir)
@@ -290,7 +294,7 @@ func newRunner(f *File, opt Options) (*runner, error) {
 	}
 	r := &runner{f: f, opt: opt, out: filepath.Clean(opt.Out), absOut: out, rebaseSweep: rebase(sweepDir), rebaseBase: rebase(baseDir)}
 	r.protect = []string{f.Path, f.Base}
-	r.sites = newOnceCache[*route.Site](siteCacheSize)
+	r.sites = newOnceCache[*site.Site](siteCacheSize)
 	r.engines = newOnceCache[*media.Engine](engineCacheSize)
 	r.hashes = newOnceCache[string](hashCacheSize)
 	return r, nil
@@ -333,7 +337,7 @@ const writersPerJob = 4
 // outcome is a planned scenario: its row and the folder to write (nil when kept as it was).
 type outcome struct {
 	row   Row
-	files []route.OutputFile
+	files []fileset.OutputFile
 }
 
 // runAll plans the scenarios on a pool of workers, writes their folders on a pool of writers,
@@ -441,10 +445,10 @@ func (r *runner) scenario(ctx context.Context, sc Scenario) (outcome, error) {
 		// Messages name the scenario's plan by its id, whatever the output folder, so the
 		// rows of shards written to different folders merge into the same bytes.
 		out.row.fail(errors.New(strings.ReplaceAll(err.Error(), dir+string(filepath.Separator), sc.ID+"/")))
-		out.files = []route.OutputFile{{Name: PlanFile, Data: planData}, {Name: ErrorFile, Data: []byte(escape.Visible(out.row.Error) + "\n")}}
+		out.files = []fileset.OutputFile{{Name: PlanFile, Data: planData}, {Name: ErrorFile, Data: []byte(escape.Visible(out.row.Error) + "\n")}}
 		return out, nil
 	}
-	p, err := route.ParsePlan(planPath, planData)
+	p, err := plan.ParsePlan(planPath, planData)
 	if err != nil {
 		return fail(err)
 	}
@@ -477,7 +481,7 @@ func (r *runner) scenario(ctx context.Context, sc Scenario) (outcome, error) {
 		}
 		return fail(err)
 	}
-	files, err := res.Outputs(ctx, r.opt.Write)
+	files, err := output.Files(ctx, res, r.opt.Write)
 	if ctx.Err() != nil {
 		return out, ctx.Err()
 	}
@@ -494,7 +498,7 @@ func (r *runner) scenario(ctx context.Context, sc Scenario) (outcome, error) {
 		}
 		files = append(files, more...)
 	}
-	files = append(files, route.OutputFile{Name: PlanFile, Data: planData}, route.OutputFile{Name: InputsFile, Data: inputs})
+	files = append(files, fileset.OutputFile{Name: PlanFile, Data: planData}, fileset.OutputFile{Name: InputsFile, Data: inputs})
 	seen := map[string]bool{}
 	for _, o := range files {
 		if seen[o.Name] || o.Name == ErrorFile {
@@ -502,7 +506,7 @@ func (r *runner) scenario(ctx context.Context, sc Scenario) (outcome, error) {
 		}
 		seen[o.Name] = true
 	}
-	out.row.fill(res.Summarize())
+	out.row.fill(output.Summarize(res))
 	out.files = files
 	return out, nil
 }
@@ -520,7 +524,7 @@ func (r *runner) planYAML(sc Scenario) ([]byte, error) {
 		// the embedded files this scenario reads.
 		head += "\n" + b
 	}
-	if u := r.opt.Write.Units; u != "" && u != route.UnitsMetric {
+	if u := r.opt.Write.Units; u != "" && u != output.UnitsMetric {
 		// Part of the plan's bytes, so a resumed sweep in other units plans again.
 		head += "\noutputs written in " + u + " units"
 	}
@@ -585,7 +589,7 @@ func cloneNode(n *yaml.Node) *yaml.Node {
 // for the scenario's plan, then for every file it reads (campus files, catalog, rules, price
 // book), named as the plan names them, relative to the scenario folder; so
 // `sha256sum -c inputs.sha256` run in the folder checks them.
-func (r *runner) inputsFile(p *route.Plan, planData []byte) ([]byte, error) {
+func (r *runner) inputsFile(p *plan.Plan, planData []byte) ([]byte, error) {
 	var b bytes.Buffer
 	sum := sha256.Sum256(planData)
 	b.WriteString(sumLine(hex.EncodeToString(sum[:]), PlanFile))
@@ -621,8 +625,8 @@ func sumLine(hash, name string) string {
 
 // resumable reports whether the scenario folder holds a finished plan of the same inputs, and
 // its summary.
-func (r *runner) resumable(dir string, inputs []byte) (route.Summary, bool) {
-	var s route.Summary
+func (r *runner) resumable(dir string, inputs []byte) (output.Summary, bool) {
+	var s output.Summary
 	old, err := os.ReadFile(filepath.Join(dir, InputsFile))
 	if err != nil || !bytes.Equal(old, inputs) {
 		return s, false
@@ -635,20 +639,20 @@ func (r *runner) resumable(dir string, inputs []byte) (route.Summary, bool) {
 }
 
 // publish writes a scenario folder whole: the files go into a temporary folder with
-// route.WriteFresh, which is then renamed to the scenario id, replacing an older folder.
-// Failures are *route.OutputError naming the scenario folder.
-func (r *runner) publish(id string, files []route.OutputFile) error {
+// fileset.WriteFresh, which is then renamed to the scenario id, replacing an older folder.
+// Failures are *fileset.OutputError naming the scenario folder.
+func (r *runner) publish(id string, files []fileset.OutputFile) error {
 	final := filepath.Join(r.out, id)
 	var tmp string
 	fail := func(err error) error {
-		var oe *route.OutputError
+		var oe *fileset.OutputError
 		if errors.As(err, &oe) {
 			if rest, ok := strings.CutPrefix(oe.Path, tmp); ok && tmp != "" {
 				oe.Path = final + rest // name the place the user knows, not the temporary folder
 			}
 			return fmt.Errorf("scenario %s: %w", id, err)
 		}
-		return fmt.Errorf("scenario %s: %w", id, &route.OutputError{Path: final, Err: err})
+		return fmt.Errorf("scenario %s: %w", id, &fileset.OutputError{Path: final, Err: err})
 	}
 	tmp, err := os.MkdirTemp(r.out, tmpPrefix+id+".")
 	if err != nil {
@@ -658,7 +662,7 @@ func (r *runner) publish(id string, files []route.OutputFile) error {
 		os.RemoveAll(tmp)
 		return fail(err)
 	}
-	if err := route.WriteFresh(tmp, files); err != nil {
+	if err := fileset.WriteFresh(tmp, files); err != nil {
 		os.RemoveAll(tmp)
 		return fail(err)
 	}
@@ -725,12 +729,12 @@ const (
 
 // site returns the site of the plan's campus files and noding options, built once and
 // shared read-only.
-func (r *runner) site(p *route.Plan) (*route.Site, error) {
+func (r *runner) site(p *plan.Plan) (*site.Site, error) {
 	files := make([]string, len(p.Campus))
 	for i, f := range p.Campus {
 		files[i] = p.Path(f)
 	}
-	opt := route.SiteOptions{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM, MaxInputBytes: p.MaxInputBytes}
+	opt := site.Options{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM, MaxInputBytes: p.MaxInputBytes}
 	var key strings.Builder
 	for _, f := range files {
 		abs, err := filepath.Abs(f)
@@ -742,7 +746,7 @@ func (r *runner) site(p *route.Plan) (*route.Site, error) {
 	key.WriteString(strconv.FormatFloat(opt.SnapM, 'g', -1, 64) + "\x00" + strconv.FormatFloat(opt.MaxLateralM, 'g', -1, 64))
 	// The site is shared by every scenario that reads it and kept with its error, so no one
 	// scenario's stop may end its building: it is built to the end.
-	return r.sites.get(key.String(), func() (*route.Site, error) { return route.LoadSite(context.Background(), nil, files, opt) })
+	return r.sites.get(key.String(), func() (*site.Site, error) { return site.Load(context.Background(), nil, files, opt) })
 }
 
 // hash returns the SHA-256 of an input file, read once per sweep.
@@ -762,9 +766,9 @@ func (r *runner) hash(path string) (string, error) {
 }
 
 // engine returns the media engine of the plan's catalog, rule and price files and engine
-// options (route.Engine reads only those), built once and shared: an engine is safe for
+// options (plan.Engine reads only those), built once and shared: an engine is safe for
 // concurrent use.
-func (r *runner) engine(p *route.Plan) (*media.Engine, error) {
+func (r *runner) engine(p *plan.Plan) (*media.Engine, error) {
 	var key strings.Builder
 	for _, f := range []string{p.Catalog, p.Rules, p.Prices} {
 		if f != "" {
@@ -774,6 +778,6 @@ func (r *runner) engine(p *route.Plan) (*media.Engine, error) {
 		}
 		key.WriteString(f + "\x00")
 	}
-	fmt.Fprintf(&key, "%#v", route.EngineOptions(p))
-	return r.engines.get(key.String(), func() (*media.Engine, error) { return route.Engine(p) })
+	fmt.Fprintf(&key, "%#v", plan.EngineOptions(p))
+	return r.engines.get(key.String(), func() (*media.Engine, error) { return plan.Engine(p) })
 }

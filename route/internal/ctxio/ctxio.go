@@ -1,4 +1,5 @@
-// Package ctxio stops a renderer that writes through an io.Writer when a context is done.
+// Package ctxio stops long loops and renderers when a context is done: a writer that fails
+// once it is, and the stride at which loops look at it.
 package ctxio
 
 import (
@@ -21,4 +22,18 @@ func (c writer) Write(p []byte) (int, error) {
 		return 0, err
 	}
 	return c.w.Write(p)
+}
+
+// StopStride is how many steps of a loop over legs, rows or pulls go between two looks at
+// the context: a look is an atomic load, a step microseconds of work.
+const StopStride = 64
+
+// StopEvery returns ctx's error at every StopStride-th step i of a loop, the first included,
+// and nil at the others; the loops of planning and rendering call it at their heads so that a
+// stop ends them within a few milliseconds.
+func StopEvery(ctx context.Context, i int) error {
+	if i%StopStride != 0 {
+		return nil
+	}
+	return ctx.Err()
 }

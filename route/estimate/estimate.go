@@ -1,0 +1,659 @@
+package estimate
+
+import (
+	"context"
+	"fmt"
+	"maps"
+	"math"
+	"slices"
+	"sort"
+
+	"spanwright/geo"
+	"spanwright/media"
+	"spanwright/media/install"
+	"spanwright/route/internal/ctxio"
+	"spanwright/route/items"
+	"spanwright/route/plan"
+	"spanwright/route/routing"
+	"spanwright/route/site"
+)
+
+// StandardGravity turns a cable's mass per metre into its weight per metre, in m/s²
+// (9.80665 exactly, CGPM 1901).
+const StandardGravity = 9.80665
+
+// Conduit bend radius, as a multiple of the duct's internal diameter (TIA-569): 10 × ID for
+// optical fibre (from memory); for copper 6 × ID up to 2 in (50.8 mm) and 10 × ID above
+// (seen). The pulling plan puts every bend of a duct at this radius.
+const (
+	BendRadiusFibreID       = 10.0
+	BendRadiusCopperSmallID = 6.0
+	BendRadiusCopperLargeID = 10.0
+	SmallConduitIDMM        = 50.8 // 2 in, in mm
+)
+
+// Estimate is the installation takeoff and priced bill of materials of a planned scenario.
+type Estimate struct {
+	Pulls []PullSection // every pull of every feasible leg, in leg order
+	// AddedPullPoints is the number of distinct intermediate pull points the pulls need, each
+	// billed as a handhole; legs that need one at the same place share it.
+	AddedPullPoints int
+	Fill            []DuctFill // each duct holding cable on a span of limited capacity, by span and duct
+	Buildings       []Connectivity
+	Construction    Construction
+	Quantities      []media.Quantity // what the BOM prices, before merging
+	BOM             *media.BOM
+	Warnings        []string // pulls over rating, cables that fit no duct, conduit bends too tight
+	BudgetWarning   string   // the total is over the plan's budget; "" when not
+}
+
+// PullSection is one pull of one cable between two pull points, in the leg's travel order
+// (from the served building towards the cross-connect). Tension is computed for conduit
+// (pathway type duct) only: cable laid in tunnels, trays, on poles or in a trench is not
+// pulled through a duct, and every change to or from duct is a pull point.
+type PullSection struct {
+	Leg      int      // index in Result.Legs
+	Seq      int      // 1-based within the leg
+	From, To string   // pull points: a structure or junction ID, a building ID, or a new handhole on a span
+	Spans    []string // span IDs in the section, in travel order
+	StartM   float64  // where the section starts along the leg's spans, from its served end, in metres
+	LengthM  float64
+	BendDeg  float64 // sum of the section's bends, in degrees
+	// BendRadiusM is the conduit bend radius the capstan's sidewall pressure uses (TIA-569
+	// multiples of the duct ID), the smallest in the section; 0 without bends.
+	BendRadiusM  float64
+	FeedAt       string  // the pull point where the cable is fed: From or To
+	TensionN     float64 // highest tension of the pull from FeedAt, in newtons
+	OtherN       float64 // highest tension when fed from the other end, in newtons
+	RatedN       float64 // the construction's maximum pulling tension, in newtons
+	SWBPNPerM    float64 // highest sidewall bearing pressure at a bend, T/R, in N/m
+	AddedFrom    bool    // From is a pull point the plan adds
+	AddedTo      bool    // To is a pull point the plan adds
+	WithinRating bool
+	Reason       string // why not within rating
+}
+
+// DuctFill is the fill of one duct of a span (NFPA 70 Chapter 9 Table 1) and, for three
+// cables of equal diameter, its jam ratio 1.05·D/d, jam-prone from 2.8 to 3.2 (NFPA 70
+// Chapter 9 informative note, seen).
+type DuctFill struct {
+	Span, PathwayID string
+	Duct            int  // 1-based
+	Added           bool // a duct the plan adds
+	DuctIDMM        float64
+	CablesODMM      []float64 // the occupants' outside diameters: the cables, or their innerducts
+	Innerduct       bool      // the occupants are innerducts, one per cable (design.innerduct_od_mm)
+	FillPct         float64   // occupants' area as a percentage of the duct's area
+	AllowedPct      float64   // 53, 31 or 40 % for 1, 2 or more cables
+	OK              bool
+	JamRatio        float64 // 0 when the jam check does not apply
+	JamRisk         bool
+}
+
+// Connectivity is what one building terminates: fibre strands on adapter panels in
+// enclosures, pigtail splices in trays, copper cables on patch panels.
+type Connectivity struct {
+	Building      string
+	FibreStrands  int
+	CopperCables  int
+	AdapterPanels map[int]int // panels by port count
+	Enclosures    map[int]int // enclosures by port count
+	CopperPanels  map[int]int // copper patch panels by port count
+	SpliceTrays   int
+}
+
+// Construction is the new civil work of a plan, in metres and counts.
+type Construction struct {
+	TrenchM map[string]float64 // new trench by surface: opened spans and trenches for added ducts
+	BoreM   float64            // the same built by directional bore (pathways with method bore)
+	// NewM is all new civil work in metres, trenched or bored: the sum of TrenchM and BoreM,
+	// computed once here and printed from here everywhere (summary, terminal, report, sweeps).
+	NewM       float64
+	AddedDuctM float64 // duct metres added: new duct in opened duct spans plus added ducts
+	// NewJunctions are the handholes where opened pathways join the network at a junction
+	// with no structure (common practice, no published source), by junction ID.
+	NewJunctions []string
+}
+
+// fibre tells whether the leg's medium is optical fibre.
+func (r *run) fibre(l *routing.Leg) bool {
+	m := r.Engine.Catalog().Medium(l.Medium)
+	return m != nil && m.Fibre()
+}
+
+// Input is what an estimate is built from: a routed plan.
+type Input struct {
+	Site   *site.Site
+	Plan   *plan.Plan // nil (a plan assembled by hand): the zero design and no budget
+	Engine *media.Engine
+	Legs   []routing.Leg // Build sets each feasible leg's Cost from its bill items
+	Fill   []routing.SegmentFill
+	Opened []string // proposed spans the plan builds, by span ID
+}
+
+// run is one estimate being built.
+type run struct {
+	Input
+	Estimate *Estimate
+}
+
+// Build builds the installation takeoff and prices it: pulling plans, duct fill,
+// connectivity, construction and the bill of materials. A price the plan needs and the
+// book lacks is an error naming its key. When ctx is done it returns ctx's error.
+func Build(ctx context.Context, in Input) (*Estimate, error) {
+	r := &run{Input: in, Estimate: &Estimate{}}
+	e := r.Estimate
+	added := map[string]bool{}
+	for i := range r.Legs {
+		if err := ctxio.StopEvery(ctx, i); err != nil {
+			return nil, err
+		}
+		if r.Legs[i].Feasible {
+			r.pullPlan(i, added)
+		}
+	}
+	e.AddedPullPoints = len(added)
+	for _, step := range []func(){r.ductFill, r.connectivity, r.construction, r.quantities} {
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
+		step()
+	}
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	bom, err := r.Engine.PriceBook().Bill(e.Quantities)
+	if err != nil {
+		return nil, fmt.Errorf("bill of materials: %w", err)
+	}
+	e.BOM = bom
+	if r.Plan == nil {
+		return e, nil
+	}
+	if budget := int64(r.Plan.Budget); budget > 0 && bom.TotalCents > budget {
+		e.BudgetWarning = fmt.Sprintf("the total %s %s is over the budget %s by %s (%.1f %%)", media.FormatCents(bom.TotalCents), bom.Currency,
+			media.FormatCents(budget), media.FormatCents(bom.TotalCents-budget), 100*float64(bom.TotalCents-budget)/float64(budget))
+	}
+	return e, nil
+}
+
+// pullPlan plans the pulls of leg i, appending its sections and warnings to the estimate
+// and its intermediate pull points to added, keyed by place.
+func (r *run) pullPlan(i int, added map[string]bool) {
+	s, d, e := r.Site, r.Plan.Design, r.Estimate
+	leg := &r.Legs[i]
+	med := r.Engine.Catalog().Medium(leg.Medium)
+	k := med.Construction(leg.Construction)
+	spec := install.PullSpec{WNPerM: leg.Cable.Size.WeightKgPerM * StandardGravity, Mu: d.PullMu,
+		MaxTensionN: k.MaxPullN, MaxBendDeg: d.PullBendDeg, MaxLengthM: d.PullMaxM, MaxSWBPNPerM: d.PullMaxSWBPNPerM}
+	juncs := s.JunctionsOf(leg.Steps)
+	cum := make([]float64, len(leg.Steps)+1)
+	spans := make([]geo.Span, len(leg.Steps))
+	for j, st := range leg.Steps {
+		spans[j], _ = s.Net.Span(st.SpanID)
+		cum[j+1] = cum[j] + spans[j].LengthM
+	}
+	cableBendM := k.BendRadiusMM(leg.Cable.Size, true) / 1000
+	tight := ""
+	radius := func(sp *geo.Span) float64 {
+		f := BendRadiusFibreID
+		if !med.Fibre() {
+			f = BendRadiusCopperLargeID
+			if sp.DuctMM <= SmallConduitIDMM {
+				f = BendRadiusCopperSmallID
+			}
+		}
+		rm := f * sp.DuctMM / 1000
+		if rm < cableBendM && tight == "" {
+			tight = fmt.Sprintf("%s %s: conduit bend radius %.2f m on span %s is below the cable's %.2f m at rated tension",
+				leg.Link.ID, leg.Name, rm, sp.ID, cableBendM)
+		}
+		return rm
+	}
+	name := func(x float64) (label, key string) {
+		for j, c := range cum {
+			if math.Abs(x-c) < 0.01 {
+				switch j {
+				case 0:
+					return leg.Link.To, "B:" + leg.Link.To
+				case len(cum) - 1:
+					return leg.Link.From, "B:" + leg.Link.From
+				}
+				return juncs[j], "J:" + juncs[j]
+			}
+		}
+		j := sort.SearchFloat64s(cum, x) - 1
+		j = min(max(j, 0), len(spans)-1)
+		off := x - cum[j]
+		if leg.Steps[j].Reverse {
+			off = spans[j].LengthM - off
+		}
+		return fmt.Sprintf("new handhole on %s at %.1f m", spans[j].ID, off), fmt.Sprintf("S:%s@%.0f", spans[j].ID, off)
+	}
+	seq := 0
+	for j := 0; j < len(spans); {
+		if spans[j].Type != geo.TypeDuct {
+			j++
+			continue
+		}
+		first := j
+		var steps []install.Step
+		var points []int
+		for ; j < len(spans) && spans[j].Type == geo.TypeDuct; j++ {
+			sp := &spans[j]
+			rm := radius(sp)
+			if j > first {
+				if s.IsStructure(juncs[j]) {
+					points = append(points, len(steps))
+				} else if turn := s.Net.TurnDeg(leg.Steps[j-1], leg.Steps[j]); turn > 0 {
+					rb := math.Min(rm, radius(&spans[j-1]))
+					steps = append(steps, install.Step{Kind: install.KindBend, AngleDeg: turn, RadiusM: rb})
+				}
+			}
+			segs := sp.SegmentsM()
+			for q := range segs {
+				qq, bq := q, q-1
+				if leg.Steps[j].Reverse {
+					qq, bq = len(segs)-1-q, len(segs)-1-q
+				}
+				if q > 0 && bq < len(sp.BendsDeg) && sp.BendsDeg[bq] > 0 {
+					steps = append(steps, install.Step{Kind: install.KindBend, AngleDeg: sp.BendsDeg[bq], RadiusM: rm})
+				}
+				if n := len(steps); n > 0 && steps[n-1].Kind == install.KindStraight && (q > 0 || j == first) {
+					steps[n-1].LengthM += segs[qq] // straight on: one straight
+				} else {
+					steps = append(steps, install.Step{Kind: install.KindStraight, LengthM: segs[qq]})
+				}
+			}
+		}
+		plan, err := s.Pulls.Sections(steps, points, spec)
+		if err != nil {
+			e.Warnings = append(e.Warnings, fmt.Sprintf("%s %s: no pulling plan: %v", leg.Link.ID, leg.Name, err))
+			continue
+		}
+		for _, sec := range plan.Sections {
+			seq++
+			start := cum[first] + sec.StartM
+			end := start + sec.LengthM
+			ps := PullSection{Leg: i, Seq: seq, StartM: start, LengthM: sec.LengthM, BendDeg: sec.BendDeg,
+				TensionN: sec.MaxTensionN, RatedN: spec.MaxTensionN, SWBPNPerM: sec.MaxSWBPNPerM,
+				AddedFrom: sec.StartAdded, AddedTo: sec.EndAdded, WithinRating: sec.WithinRating, Reason: sec.Reason}
+			var fromKey, toKey string
+			ps.From, fromKey = name(start)
+			ps.To, toKey = name(end)
+			if sec.StartAdded {
+				added[fromKey] = true
+			}
+			if sec.EndAdded {
+				added[toKey] = true
+			}
+			ps.FeedAt, ps.OtherN = ps.From, sec.Reverse.MaxTensionN
+			if sec.Best == install.Reverse {
+				ps.FeedAt, ps.OtherN = ps.To, sec.Forward.MaxTensionN
+			}
+			for _, st := range sec.Steps {
+				if st.Kind == install.KindBend && (ps.BendRadiusM == 0 || st.RadiusM < ps.BendRadiusM) {
+					ps.BendRadiusM = st.RadiusM
+				}
+			}
+			for q := first; q < j; q++ {
+				if cum[q] < end-0.01 && cum[q+1] > start+0.01 {
+					ps.Spans = append(ps.Spans, spans[q].ID)
+				}
+			}
+			if !sec.WithinRating {
+				e.Warnings = append(e.Warnings, fmt.Sprintf("%s %s: pull %d from %s to %s: %s; reroute or add a structure",
+					leg.Link.ID, leg.Name, seq, ps.From, ps.To, sec.Reason))
+			}
+			e.Pulls = append(e.Pulls, ps)
+		}
+	}
+	if tight != "" {
+		e.Warnings = append(e.Warnings, tight)
+	}
+}
+
+// ductFill checks every duct of every span of limited capacity that carries cable, with
+// the chosen cables' outside diameters, packed as the optimizer does (first fit decreasing).
+func (r *run) ductFill() {
+	e := r.Estimate
+	var design plan.Design // a Result assembled by hand may lack its plan
+	if r.Plan != nil {
+		design = r.Plan.Design
+	}
+	ods := map[string][]float64{}
+	for i := range r.Legs {
+		l := &r.Legs[i]
+		if !l.Feasible {
+			continue
+		}
+		od := l.Cable.Size.ODMM
+		if design.Innerduct() {
+			od = design.InnerductODMM // every cable in a duct is in an innerduct of its own
+		}
+		for _, st := range l.Steps {
+			for c := 0; c < l.Cable.Cables; c++ {
+				ods[st.SpanID] = append(ods[st.SpanID], od)
+			}
+		}
+	}
+	for _, f := range r.Fill {
+		if !f.Limited {
+			continue
+		}
+		sp, _ := r.Site.Net.Span(f.Span)
+		bank := install.DuctBank{Ducts: f.Ducts + f.AddedDucts, IDMM: sp.DuctMM}
+		a := bank.Assign(ods[f.Span])
+		if a.Err != nil {
+			e.Warnings = append(e.Warnings, fmt.Sprintf("span %s: duct fill: %v", f.Span, a.Err))
+			continue
+		}
+		if a.Unplaced > 0 {
+			e.Warnings = append(e.Warnings, fmt.Sprintf("span %s: %d of %d cables fit no duct within NFPA 70 Chapter 9 fill and jam limits",
+				f.Span, a.Unplaced, len(ods[f.Span])))
+		}
+		for d, df := range a.Ducts {
+			if len(df.CablesODMM) == 0 {
+				continue
+			}
+			e.Fill = append(e.Fill, DuctFill{Span: f.Span, PathwayID: f.PathwayID, Duct: d + 1, Added: d >= f.Ducts,
+				DuctIDMM: sp.DuctMM, CablesODMM: df.CablesODMM, Innerduct: design.Innerduct(), FillPct: df.Pct, AllowedPct: df.AllowedPct,
+				OK: df.OK && !df.JamRisk, JamRatio: df.JamRatio, JamRisk: df.JamRisk})
+		}
+	}
+}
+
+// cover is the fewest items of the given sizes (ascending) holding n: as many of the
+// largest as fit whole, then the smallest that holds the rest. It is empty for n <= 0 or
+// no sizes.
+func cover(sizes []int, n int) map[int]int {
+	out := map[int]int{}
+	if n <= 0 || len(sizes) == 0 {
+		return out
+	}
+	big := sizes[len(sizes)-1]
+	if k := n / big; k > 0 {
+		out[big] = k
+		n -= k * big
+	}
+	if n > 0 {
+		for _, s := range sizes {
+			if s >= n {
+				out[s]++
+				break
+			}
+		}
+	}
+	return out
+}
+
+// counts are the sizes the book prices for each item, ascending.
+func counts(p *media.PriceBook, items ...string) map[string][]int {
+	out := map[string][]int{}
+	for _, k := range p.Keys() {
+		for _, it := range items {
+			if k.Item == it {
+				out[it] = append(out[it], k.Count)
+			}
+		}
+	}
+	return out
+}
+
+// connectivity sizes what each building terminates. Each fibre cable end gets its own
+// adapter panels (the fewest covering its strands) and its pigtail splices their own
+// trays; a building's enclosures hold all its panel ports; copper cables share the
+// building's patch panels (common practice, no published source).
+func (r *run) connectivity() {
+	p := r.Engine.PriceBook()
+	sizes := counts(p, media.PriceAdapterPanel, media.PriceEnclosure, media.PriceCopperPanel)
+	panels, encl, copper := sizes[media.PriceAdapterPanel], sizes[media.PriceEnclosure], sizes[media.PriceCopperPanel]
+	byB := map[string]*Connectivity{}
+	get := func(b string) *Connectivity {
+		c, ok := byB[b]
+		if !ok {
+			c = &Connectivity{Building: b, AdapterPanels: map[int]int{}, Enclosures: map[int]int{}, CopperPanels: map[int]int{}}
+			byB[b] = c
+		}
+		return c
+	}
+	for i := range r.Legs {
+		l := &r.Legs[i]
+		if !l.Feasible {
+			continue
+		}
+		for _, b := range []string{l.Link.From, l.Link.To} {
+			c := get(b)
+			if !r.fibre(l) {
+				c.CopperCables += l.Cable.Terminated
+				continue
+			}
+			c.FibreStrands += l.Cable.Terminated
+			for size, n := range cover(panels, l.Cable.Terminated) {
+				c.AdapterPanels[size] += n
+			}
+			c.SpliceTrays += p.TraysFor(l.Cable.Terminated)
+		}
+	}
+	names := make([]string, 0, len(byB))
+	for b := range byB {
+		names = append(names, b)
+	}
+	sort.Strings(names)
+	for _, b := range names {
+		c := byB[b]
+		ports := 0
+		for size, n := range c.AdapterPanels {
+			ports += size * n
+		}
+		if c.FibreStrands > 0 && len(panels) == 0 {
+			ports = c.FibreStrands
+		}
+		c.Enclosures = cover(encl, ports)
+		c.CopperPanels = cover(copper, c.CopperCables)
+		r.Estimate.Buildings = append(r.Estimate.Buildings, *c)
+	}
+}
+
+// newWork counts new work along a span: bored, or trenched on its surface.
+func (c *Construction) newWork(sp *geo.Span) {
+	if sp.Method == geo.MethodBore {
+		c.BoreM += sp.LengthM
+		return
+	}
+	c.TrenchM[items.SurfaceOf(sp)] += sp.LengthM
+}
+
+// construction totals the new civil work: opened spans (trench and restoration on their
+// surface, or a directional bore, and a duct when the span is a duct), added ducts on existing
+// spans (one trench or bore beside the span however many ducts it gets) and a handhole where an opened span meets the
+// network at a junction without a structure.
+func (r *run) construction() {
+	s := r.Site
+	c := Construction{TrenchM: map[string]float64{}}
+	access := map[string]bool{}
+	for _, a := range s.Net.Access {
+		access[a.Junction] = true
+	}
+	newJ := map[string]bool{}
+	for _, id := range r.Opened {
+		sp, _ := s.Net.Span(id)
+		c.newWork(&sp)
+		if sp.Type == geo.TypeDuct {
+			c.AddedDuctM += sp.LengthM
+		}
+		for _, j := range []string{sp.From, sp.To} {
+			if jn, ok := s.Net.Junction(j); ok && jn.Kind == geo.JunctionNode && !access[j] {
+				newJ[j] = true
+			}
+		}
+	}
+	for _, f := range r.Fill {
+		if f.AddedDucts > 0 {
+			sp, _ := s.Net.Span(f.Span)
+			c.newWork(&sp)
+			c.AddedDuctM += float64(f.AddedDucts) * sp.LengthM
+		}
+	}
+	for j := range newJ {
+		c.NewJunctions = append(c.NewJunctions, j)
+	}
+	sort.Strings(c.NewJunctions)
+	c.NewM = c.BoreM
+	for _, sf := range slices.Sorted(maps.Keys(c.TrenchM)) { // in one order: a float sum depends on it
+		c.NewM += c.TrenchM[sf]
+	}
+	r.Estimate.Construction = c
+}
+
+// legItems lists what one feasible leg puts on the bill of materials: its cables, entrance
+// transitions, terminations, tests, patch cords, transceivers, reel joins, and the
+// route-dependent items of its spans, ends and structure loops (package items), each for all its
+// cables. The bill adds them up; the leg's cost (LegCost) is them priced one by one.
+func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg) []media.Quantity {
+	p := eng.PriceBook()
+	qs := make([]media.Quantity, 0, 24)
+	add := func(category, item, unit string, amount float64, price media.PriceKey) {
+		qs = append(qs, media.Quantity{Category: category, Item: item, Unit: unit, Amount: amount, Price: price})
+	}
+	work := func(item, unit string, amount float64, rate media.PriceKey) {
+		qs = append(qs, media.Quantity{Category: media.CategoryLabour, Item: item, Unit: unit, Amount: amount, Price: items.LabourHour, Rate: rate})
+	}
+	times := func(n float64, items ...media.Quantity) {
+		for _, q := range items {
+			q.Amount *= n
+			qs = append(qs, q)
+		}
+	}
+	t := l.Cable
+	n := float64(t.Cables)
+	m := eng.Catalog().Medium(l.Medium)
+	fibre := m != nil && m.Fibre()
+	qs = append(qs, items.Cable(l.Medium, l.Construction, t.Size.Count, fibre, t.OutsideLengthM()*n))
+	if l.Inside != "" {
+		// The entrance transitions: inside cable up the risers, and at each entrance an
+		// enclosure per cable with trays for every strand, all spliced through.
+		qs = append(qs, items.Cable(l.Medium, l.Inside, t.InsideSize.Count, true, t.InsideLengthM*float64(t.InsideCables)))
+		spliced := t.Size.Count * t.Cables
+		add(media.CategoryMaterial, "entrance transition enclosure", media.UnitEach, 2*n, media.PriceKey{Item: media.PriceTransition})
+		add(media.CategoryMaterial, fmt.Sprintf("splice tray, %d splices", p.TraySplices()), media.UnitEach, float64(2*p.TraysFor(spliced)), media.PriceKey{Item: media.PriceSpliceTray})
+		work("splice fibre, entrance transitions", media.UnitEach, float64(2*spliced), media.PriceKey{Item: media.RateSplice})
+	}
+	ends := float64(2 * t.Terminated)
+	if fibre {
+		add(media.CategoryMaterial, "termination "+l.Medium+", per strand end", media.UnitEach, ends, media.PriceKey{Item: media.PriceTermination, Medium: l.Medium})
+		work("terminate fibre strands", media.UnitEach, ends, media.PriceKey{Item: media.RateTermination})
+		work("loss test fibre strands", media.UnitEach, float64(t.Terminated), media.PriceKey{Item: media.RateLossTest})
+		work("OTDR test fibre strands", media.UnitEach, float64(t.Terminated), media.PriceKey{Item: media.RateOTDRTest})
+	} else {
+		add(media.CategoryMaterial, "termination "+l.Medium+", per 4-pair cable end", media.UnitEach, ends, media.PriceKey{Item: media.PriceTermination, Medium: l.Medium})
+		work("terminate copper cables", media.UnitEach, ends, media.PriceKey{Item: media.RateTermination})
+		work("certify copper channels", media.UnitEach, float64(t.Terminated), media.PriceKey{Item: media.RateLossTest})
+	}
+	if p.Has(media.PricePatchCord) {
+		add(media.CategoryMaterial, "patch cord "+l.Medium, media.UnitEach, 2, media.PriceKey{Item: media.PricePatchCord, Medium: l.Medium})
+	}
+	if a := eng.Catalog().Application(l.Application); a != nil {
+		add(media.CategoryOptics, "transceiver "+a.Transceiver, media.UnitEach, 2, media.PriceKey{Item: media.PriceTransceiver, Name: a.Transceiver})
+	}
+	if t.Joins > 0 {
+		joins := float64(t.Joins) * n
+		add(media.CategoryMaterial, "splice closure, mid-span join", media.UnitEach, joins, media.PriceKey{Item: media.PriceSpliceClosure})
+		add(media.CategoryMaterial, fmt.Sprintf("splice tray, %d splices", p.TraySplices()), media.UnitEach, joins*float64(p.TraysFor(t.Size.Count)), media.PriceKey{Item: media.PriceSpliceTray})
+		work("splice fibre, mid-span joins", media.UnitEach, joins*float64(t.Size.Count), media.PriceKey{Item: media.RateSplice})
+	}
+	// Along the route by pathway type; then risers, coils and entrance loops in tray,
+	// laterals buried, structure loops in duct.
+	var alongM [len(items.PathwayTypes)]float64
+	for _, st := range l.Steps {
+		sp, _ := s.Net.Span(st.SpanID)
+		alongM[slices.Index(items.PathwayTypes[:], sp.Type)] += sp.LengthM
+	}
+	for i, m := range alongM {
+		if m > 0 {
+			times(n, items.AlongSpan(d, items.PathwayTypes[i], m)...)
+		}
+	}
+	times(n, items.LegEnds(l.RiserM, t.EndSlackM+t.EntranceLoopM, l.LateralM)...)
+	times(n, items.StructureLoops(t.StructureLoopM)...)
+	return qs
+}
+
+// quantities lists everything the bill of materials prices, and sets each feasible leg's
+// cost from its items (legCost).
+func (r *run) quantities() {
+	e := r.Estimate
+	p := r.Engine.PriceBook()
+	e.Quantities = make([]media.Quantity, 0, 20*len(r.Legs)+8*len(e.Buildings)+8)
+	add := func(category, item, unit string, amount float64, price media.PriceKey) {
+		e.Quantities = append(e.Quantities, media.Quantity{Category: category, Item: item, Unit: unit, Amount: amount, Price: price})
+	}
+	var design plan.Design
+	if r.Plan != nil {
+		design = r.Plan.Design
+	}
+	for i := range r.Legs {
+		if l := &r.Legs[i]; l.Feasible {
+			items := legItems(r.Site, r.Engine, design, l)
+			// The leg's cost: its items priced one by one, and its share of new construction.
+			c := legCost(p, items)
+			c.ConstructionCents += l.Cost.ConstructionCents
+			l.Cost = c
+			e.Quantities = append(e.Quantities, items...)
+		}
+	}
+	for _, c := range e.Buildings {
+		for _, size := range slices.Sorted(maps.Keys(c.AdapterPanels)) {
+			add(media.CategoryMaterial, fmt.Sprintf("adapter panel, %d ports", size), media.UnitEach, float64(c.AdapterPanels[size]), media.PriceKey{Item: media.PriceAdapterPanel, Count: size})
+		}
+		for _, size := range slices.Sorted(maps.Keys(c.Enclosures)) {
+			add(media.CategoryMaterial, fmt.Sprintf("fibre enclosure, %d ports", size), media.UnitEach, float64(c.Enclosures[size]), media.PriceKey{Item: media.PriceEnclosure, Count: size})
+		}
+		for _, size := range slices.Sorted(maps.Keys(c.CopperPanels)) {
+			add(media.CategoryMaterial, fmt.Sprintf("copper patch panel, %d ports", size), media.UnitEach, float64(c.CopperPanels[size]), media.PriceKey{Item: media.PriceCopperPanel, Count: size})
+		}
+		if c.FibreStrands > 0 && len(c.AdapterPanels) == 0 {
+			add(media.CategoryMaterial, "adapter panel", media.UnitEach, 1, media.PriceKey{Item: media.PriceAdapterPanel, Count: c.FibreStrands})
+		}
+		if c.FibreStrands > 0 && len(c.Enclosures) == 0 {
+			add(media.CategoryMaterial, "fibre enclosure", media.UnitEach, 1, media.PriceKey{Item: media.PriceEnclosure, Count: c.FibreStrands})
+		}
+		if c.CopperCables > 0 && len(c.CopperPanels) == 0 {
+			add(media.CategoryMaterial, "copper patch panel", media.UnitEach, 1, media.PriceKey{Item: media.PriceCopperPanel, Count: c.CopperCables})
+		}
+		if c.SpliceTrays > 0 {
+			add(media.CategoryMaterial, fmt.Sprintf("splice tray, %d splices", p.TraySplices()), media.UnitEach, float64(c.SpliceTrays), media.PriceKey{Item: media.PriceSpliceTray})
+		}
+	}
+	con := e.Construction
+	for _, sf := range slices.Sorted(maps.Keys(con.TrenchM)) {
+		e.Quantities = append(e.Quantities, items.Trench(sf, con.TrenchM[sf])...)
+	}
+	if con.BoreM > 0 { // a price book without bores stays valid while no plan bores
+		e.Quantities = append(e.Quantities, items.Bore(con.BoreM))
+	}
+	e.Quantities = append(e.Quantities, items.AddedDuct(con.AddedDuctM), items.JoinHandholes(len(con.NewJunctions)))
+	add(media.CategoryConstruction, "handhole for an added pull point", media.UnitEach, float64(e.AddedPullPoints),
+		media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole})
+}
+
+// legCost prices a leg's bill items one by one (media.PriceBook.Cents) into its breakdown:
+// cables, transitions and reel joins as cable; terminations, patch cords and transceivers
+// as optics; labour; innerduct as construction.
+func legCost(p *media.PriceBook, qs []media.Quantity) routing.LegCost {
+	var c routing.LegCost
+	for _, q := range qs {
+		x := p.Cents(q)
+		switch {
+		case q.Category == media.CategoryLabour:
+			c.LabourCents += x
+		case q.Category == media.CategoryOptics, q.Price.Item == media.PriceTermination, q.Price.Item == media.PricePatchCord:
+			c.OpticsCents += x
+		case q.Price.Item == media.PriceInnerduct, q.Category == media.CategoryConstruction:
+			c.ConstructionCents += x
+		default:
+			c.CableCents += x
+		}
+	}
+	return c
+}

@@ -1,0 +1,638 @@
+package estimate_test
+
+import (
+	"bytes"
+	"context"
+	"errors"
+	"fmt"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"spanwright/geo"
+	"spanwright/media"
+	"spanwright/route"
+	"spanwright/route/estimate"
+	"spanwright/route/internal/testplan"
+	"spanwright/route/internal/testsite"
+	"spanwright/route/output"
+	"spanwright/route/plan"
+)
+
+// TestPullTensionByHand checks the pulling plan of a simple route against the textbook
+// statics done by hand: a straight adds W·L·μ, a bend multiplies by e^(μθ) (capstan
+// equation), the lower of the two pulling directions wins, and the structure between the
+// bends is a pull point (TIA-569: at most 180° between pull points).
+func TestPullTensionByHand(t *testing.T) {
+	t.Parallel()
+	r, err := testplan.PullSolve(t, 100, 2, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	i, leg := testplan.LegOf(t, r, "A-B")
+	k := r.Engine.Catalog().Medium(leg.Medium).Construction(leg.Construction)
+	size, _ := k.Fit(leg.StrandsCable)
+	w := size.WeightKgPerM * 9.80665 // N/m, standard gravity
+	const mu = 0.5                   // PlanDefaults: the usual value when unknown
+	capstan := math.Exp(mu * math.Pi / 2)
+	// Lengths of the straights, measured between the vertices with the geodesic distance.
+	d := func(x1, y1, x2, y2 float64) float64 {
+		a, b := testsite.Point(x1, y1), testsite.Point(x2, y2)
+		return geo.DistanceM(a, b)
+	}
+	north, east1 := d(210, 115, 210, 0), d(210, 0, 110, 0)
+	east2, south := d(110, 0, 10, 0), d(10, 0, 10, 15)
+	type want struct {
+		from, to, feed string
+		lengthM, bend  float64
+		tension, other float64
+	}
+	// B → HH-1: 115 m straight, 90°, 100 m. Fed at B: (115·e^(μπ/2) + 100)·W·μ; fed at HH-1:
+	// (100·e^(μπ/2) + 115)·W·μ, the lower. HH-1 → A likewise with 100 m and 15 m.
+	fedB := (north*capstan + east1) * w * mu
+	fedHH := (east1*capstan + north) * w * mu
+	fedHH2 := (east2*capstan + south) * w * mu
+	fedA := (south*capstan + east2) * w * mu
+	wants := []want{
+		{"B", "HH-1", "HH-1", north + east1, 90, fedHH, fedB},
+		{"HH-1", "A", "A", east2 + south, 90, fedA, fedHH2},
+	}
+	var got []estimate.PullSection
+	for _, p := range r.Estimate.Pulls {
+		if p.Leg == i {
+			got = append(got, p)
+		}
+	}
+	if len(got) != len(wants) {
+		t.Fatalf("pull sections: got %d %+v, want %d", len(got), got, len(wants))
+	}
+	for n, wt := range wants {
+		g := got[n]
+		if g.From != wt.from || g.To != wt.to || g.FeedAt != wt.feed {
+			t.Errorf("section %d: got %s → %s fed at %s, want %s → %s fed at %s", n+1, g.From, g.To, g.FeedAt, wt.from, wt.to, wt.feed)
+		}
+		if math.Abs(g.LengthM-wt.lengthM) > 1e-6 || math.Abs(g.BendDeg-wt.bend) > 0.01 {
+			t.Errorf("section %d: got %.3f m and %.3f°, want %.3f m and %.0f°", n+1, g.LengthM, g.BendDeg, wt.lengthM, wt.bend)
+		}
+		if math.Abs(g.TensionN-wt.tension) > 0.05 || math.Abs(g.OtherN-wt.other) > 0.05 {
+			t.Errorf("section %d: got %.2f N (other way %.2f N), want %.2f N (%.2f N)", n+1, g.TensionN, g.OtherN, wt.tension, wt.other)
+		}
+		if g.RatedN != k.MaxPullN || !g.WithinRating {
+			t.Errorf("section %d: rated %.0f N within %v, want %.0f N within", n+1, g.RatedN, g.WithinRating, k.MaxPullN)
+		}
+		// TIA-569: conduit bend radius 10 × ID for fibre; SWBP = T/R at the bend (seen).
+		if g.BendRadiusM != 1.0 {
+			t.Errorf("section %d: bend radius %.3f m, want 1.0 m (10 × 100 mm)", n+1, g.BendRadiusM)
+		}
+	}
+	// The SWBP at the bend when fed at A: the tension leaving the bend over its radius.
+	if want := south * w * mu * capstan / 1.0; math.Abs(got[1].SWBPNPerM-want) > 0.05 {
+		t.Errorf("sidewall pressure: got %.2f N/m, want %.2f N/m", got[1].SWBPNPerM, want)
+	}
+}
+
+// TestPullPointAdded: with at most 100 m between pull points (TIA-569 sets 30 m for conduit
+// in buildings; a plan may set any), the 215 m from B to HH-1 needs intermediate pull
+// points, billed as handholes once however many legs pass them; and a bend budget below a
+// single bend cannot be met, which is reported.
+func TestPullPointAdded(t *testing.T) {
+	t.Parallel()
+	r, err := testplan.PullSolve(t, 100, 2, func(p *plan.Plan) { p.Design.PullMaxM = 100 })
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r.Estimate.AddedPullPoints == 0 {
+		t.Fatalf("no pull point added")
+	}
+	places := map[string]bool{}
+	for _, p := range r.Estimate.Pulls {
+		if p.LengthM > 100+1e-9 || !p.WithinRating {
+			t.Errorf("pull %s → %s: %.1f m, within %v (%s)", p.From, p.To, p.LengthM, p.WithinRating, p.Reason)
+		}
+		if p.AddedFrom {
+			places[p.From] = true
+		}
+		if p.AddedTo {
+			places[p.To] = true
+		}
+	}
+	if len(places) != r.Estimate.AddedPullPoints {
+		t.Errorf("added pull points %d, at %d places %v", r.Estimate.AddedPullPoints, len(places), places)
+	}
+	if got := testplan.BOMQty(r.Estimate.BOM, "handhole for an added pull point"); got != float64(r.Estimate.AddedPullPoints) {
+		t.Errorf("handholes billed for pull points: got %v, want %d", got, r.Estimate.AddedPullPoints)
+	}
+
+	r, err = testplan.PullSolve(t, 100, 2, func(p *plan.Plan) { p.Design.PullBendDeg = 60 })
+	if err != nil {
+		t.Fatal(err)
+	}
+	i, _ := testplan.LegOf(t, r, "A-B")
+	var over []string
+	for _, p := range r.Estimate.Pulls {
+		if p.Leg == i && !p.WithinRating {
+			over = append(over, p.Reason)
+		}
+	}
+	// A single 90° bend cannot be split: each bend becomes its own section, out of rating.
+	if len(over) != 2 || !strings.Contains(over[0], "bends 90.0° over 60.0°") {
+		t.Errorf("sections over the bend budget: got %q", over)
+	}
+	found := false
+	for _, w := range r.Warnings {
+		found = found || strings.Contains(w, "A-B primary: pull") && strings.Contains(w, "reroute or add a structure")
+	}
+	if !found {
+		t.Errorf("no pulling warning in %q", r.Warnings)
+	}
+	if s := output.Summarize(r); s.PullsOverRating == 0 || s.WarningCounts["install"] == 0 {
+		t.Errorf("summary: %d pulls over rating, warning counts %v", s.PullsOverRating, s.WarningCounts)
+	}
+}
+
+// TestReelJoinsInLossBudget: a run longer than a reel is cut with mid-span splices, which
+// the loss budget counts (ANSI/TIA-568.3-D splice 0.3 dB maximum, from memory) and the
+// bill of materials buys (closures, trays, splicing).
+func TestReelJoinsInLossBudget(t *testing.T) {
+	t.Parallel()
+	base, err := testplan.PullSolve(t, 100, 2, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	cut, err := testplan.PullSolve(t, 100, 2, func(p *plan.Plan) { p.Design.ReelM = 150 })
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, a := testplan.LegOf(t, base, "A-B")
+	_, b := testplan.LegOf(t, cut, "A-B")
+	if a.Cable.Joins != 0 || a.Cable.Reels != 1 {
+		t.Fatalf("4 km reels: got %d reels, %d joins", a.Cable.Reels, a.Cable.Joins)
+	}
+	wantReels := int(math.Ceil(b.Cable.LengthM / 150))
+	if b.Cable.Reels != wantReels || b.Cable.Joins != wantReels-1 || b.Cable.Joins < 2 {
+		t.Fatalf("150 m reels for %.0f m: got %d reels, %d joins, want %d reels", b.Cable.LengthM, b.Cable.Reels, b.Cable.Joins, wantReels)
+	}
+	if a.Medium != b.Medium || a.Construction != b.Construction {
+		t.Fatalf("medium changed: %s %s → %s %s", a.Medium, a.Construction, b.Medium, b.Construction)
+	}
+	splice := base.Engine.Catalog().SpliceDB
+	for n, x := range a.Losses {
+		y := b.Losses[n]
+		if d := y.LossDB - x.LossDB; math.Abs(d-float64(b.Cable.Joins)*splice) > 1e-9 {
+			t.Errorf("%d nm: joins add %.4f dB, want %d × %.2f dB", x.WavelengthNM, d, b.Cable.Joins, splice)
+		}
+	}
+	joins, splices := 0.0, 0
+	for _, l := range cut.Legs {
+		joins += float64(l.Cable.Joins * l.Cable.Cables)
+		splices += l.Cable.Joins * l.Cable.Cables * l.Cable.Size.Count
+	}
+	if got := testplan.BOMQty(cut.Estimate.BOM, "splice closure, mid-span join"); got != joins {
+		t.Errorf("closures: got %v, want %v", got, joins)
+	}
+	if l, ok := testplan.BOMLine(cut.Estimate.BOM, "splice fibre, mid-span joins"); !ok || l.Work != float64(splices) ||
+		!strings.HasPrefix(l.Describe(nil, ""), fmt.Sprintf("splice fibre, mid-span joins: %d at", splices)) {
+		t.Errorf("splicing labour: got %+v", l)
+	}
+	if _, ok := testplan.BOMLine(base.Estimate.BOM, "splice closure"); ok {
+		t.Errorf("closures bought without joins")
+	}
+	if s := output.Summarize(cut); s.MidSpanSplices != int(joins) {
+		t.Errorf("summary mid-span splices: got %d", s.MidSpanSplices)
+	}
+}
+
+// TestConstruction: C is reached only over the proposed duct P, whose far end meets D at a
+// junction with no structure (a new handhole there), and D's single 25 mm duct takes one
+// 24-strand cable (NFPA 70 Chapter 9 Table 1: 53 % for one cable) but not two (31 %), so the
+// plan adds a duct where B's and C's cables share it.
+func TestConstruction(t *testing.T) {
+	t.Parallel()
+	r, err := testplan.PullSolve(t, 25, 1, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	testplan.LegOf(t, r, "A-C")
+	if len(r.Opened) != 1 || !strings.HasPrefix(r.Opened[0], "P") {
+		t.Fatalf("opened: got %v, want P", r.Opened)
+	}
+	con := r.Estimate.Construction
+	p, _ := r.Site.Net.Span(r.Opened[0])
+	if math.Abs(con.TrenchM["asphalt"]-p.LengthM) > 1e-9 || len(con.NewJunctions) != 1 {
+		t.Errorf("trench in asphalt %.2f m (want %.2f), new junctions %v", con.TrenchM["asphalt"], p.LengthM, con.NewJunctions)
+	}
+	addedM, addedDucts := 0.0, 0
+	turf := 0.0
+	for _, f := range r.Fill {
+		if f.AddedDucts > 0 {
+			sp, _ := r.Site.Net.Span(f.Span)
+			addedM += float64(f.AddedDucts) * sp.LengthM
+			turf += sp.LengthM
+			addedDucts += f.AddedDucts
+		}
+	}
+	if addedDucts == 0 {
+		t.Fatalf("no duct added: fill %+v", r.Fill)
+	}
+	if math.Abs(con.AddedDuctM-(p.LengthM+addedM)) > 1e-9 || math.Abs(con.TrenchM["turf"]-turf) > 1e-9 {
+		t.Errorf("added duct %.2f m, want %.2f; turf trench %.2f m, want %.2f", con.AddedDuctM, p.LengthM+addedM, con.TrenchM["turf"], turf)
+	}
+	b := r.Estimate.BOM
+	for item, want := range map[string]float64{
+		"trench, asphalt":      math.Round(p.LengthM*10) / 10,
+		"restoration, asphalt": math.Round(p.LengthM*10) / 10,
+		"trench, turf":         math.Round(turf*10) / 10,
+		"added duct":           math.Round((p.LengthM+addedM)*10) / 10,
+		"handhole where new pathway joins the network": 1,
+	} {
+		if got := testplan.BOMQty(b, item); got != want {
+			t.Errorf("%s: got %v, want %v", item, got, want)
+		}
+	}
+	// Duct fill rows: one cable per 25 mm duct, π/4·d² over π/4·D² (computed).
+	rows := 0
+	for _, f := range r.Estimate.Fill {
+		if f.DuctIDMM != 25 || len(f.CablesODMM) == 0 {
+			continue
+		}
+		rows++
+		want := 100 * f.CablesODMM[0] * f.CablesODMM[0] / (25 * 25)
+		if len(f.CablesODMM) != 1 || math.Abs(f.FillPct-want) > 1e-9 || f.AllowedPct != 53 || !f.OK {
+			t.Errorf("fill %s duct %d: %v cables, %.2f %% of %.0f %%, want one at %.2f %% of 53 %%", f.Span, f.Duct, f.CablesODMM, f.FillPct, f.AllowedPct, want)
+		}
+	}
+	if rows == 0 {
+		t.Errorf("no duct fill rows")
+	}
+	if got := b.CategoryCents(media.CategoryConstruction); got <= 0 {
+		t.Errorf("construction subtotal: got %d", got)
+	}
+}
+
+// TestMissingPriceNamed: a price book without the enclosures and OTDR rate the plan needs is
+// rejected, every missing item named by its key.
+func TestMissingPriceNamed(t *testing.T) {
+	t.Parallel()
+	data, err := os.ReadFile(filepath.Join("..", "..", "media", "prices-demo.yaml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var keep []string
+	for _, line := range strings.Split(string(data), "\n") {
+		if strings.HasPrefix(line, "fibre_enclosures:") {
+			continue
+		}
+		keep = append(keep, strings.Replace(line, "{loss: 20, otdr: 12}", "{loss: 20}", 1))
+	}
+	dir := t.TempDir()
+	path := filepath.Join(dir, "prices.yaml")
+	if err := os.WriteFile(path, []byte(strings.Join(keep, "\n")), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	_, err = testplan.PullSolve(t, 100, 2, func(p *plan.Plan) { p.Prices = path })
+	if err == nil || !errors.Is(err, media.ErrMissingPrice) {
+		t.Fatalf("got %v, want a missing price", err)
+	}
+	for _, want := range []string{"add fibre_enclosures.24", "add labour.tests_per_hour.otdr", path} {
+		if !strings.Contains(err.Error(), want) {
+			t.Errorf("error %q lacks %q", err, want)
+		}
+	}
+}
+
+func TestDesignValidation(t *testing.T) {
+	t.Parallel()
+	cases := []struct {
+		name, design, want string
+	}{
+		{"waste over 100", "{waste_pct: 150}", "design.waste_pct: want a percentage from 0 to 100, got 150"},
+		{"negative loop", "{slack_loop_structure_m: -1}", "p.yaml:2:34: design.slack_loop_structure_m: want metres from 0 to 1000, got -1"},
+		{"reel shorter than copper", "{reel_m: 50}", "design.reel_m: want metres from 100 to 100000, got 50"},
+		{"friction NaN", "{pull_mu: .nan}", "design.pull_mu: want a coefficient of friction from 0 to 2, got NaN"},
+		{"bends over NFPA 70", "{pull_bend_deg: 400}", "design.pull_bend_deg: want degrees above 0 and at most 360"},
+		{"negative pull length", "{pull_max_m: -5}", "design.pull_max_m: want metres from 0 to 100000, got -5"},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			_, err := plan.ParsePlan("p.yaml", []byte("campus: [c.geojson]\ndesign: "+tc.design+"\n"))
+			if err == nil || !strings.Contains(err.Error(), tc.want) {
+				t.Errorf("%s: got %v, want %q", tc.name, err, tc.want)
+			}
+		})
+	}
+	p, err := plan.ParsePlan("p.yaml", []byte("campus: [c.geojson]\ndesign: {pull_mu: 0.35, reel_m: 2000}\n"))
+	if err != nil || p.Design.PullMu != 0.35 || p.Design.ReelM != 2000 || p.Design.WastePct != 5 || p.Design.PullBendDeg != 180 {
+		t.Errorf("design: got %+v (%v)", p.Design, err)
+	}
+}
+
+// TestCopperTakeoff: a copper leg terminates 4-pair cables (one per two strands) on the
+// buildings' copper patch panels and is certified per channel; it has no splice trays.
+func TestCopperTakeoff(t *testing.T) {
+	t.Parallel()
+	r, err := testplan.PullSolve(t, 100, 2, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, leg := testplan.LegOf(t, r, "A-B")
+	cat := r.Engine.Catalog()
+	k := cat.Medium("cat6a").Construction("outdoor")
+	leg.Medium, leg.Construction, leg.Application = "cat6a", "outdoor", "1000BASE-T"
+	leg.Cable.Fit(cat, media.Choice{Medium: "cat6a", Construction: "outdoor", Strands: (leg.StrandsCable + 1) / 2}, leg.RiserM, 0)
+	if leg.Cable.Cables != (leg.StrandsCable+1)/2 || leg.Cable.Size != k.Sizes[0] {
+		t.Fatalf("copper fit: %+v", leg.Cable)
+	}
+	e, err := estimate.Build(context.Background(), estimate.Input{Site: r.Site, Plan: r.Plan, Engine: r.Engine, Legs: r.Legs, Fill: r.Fill, Opened: r.Opened})
+	if err != nil {
+		t.Fatal(err)
+	}
+	r.Estimate = e
+	b := e.BOM
+	cables := float64(leg.Cable.Cables)
+	for item, want := range map[string]float64{
+		"termination cat6a, per 4-pair cable end": 2 * cables,
+		"copper patch panel, 24 ports":            2, // one at A and one at B
+		"patch cord cat6a":                        2,
+		"transceiver 1000BASE-T":                  2,
+	} {
+		if got := testplan.BOMQty(b, item); got != want {
+			t.Errorf("%s: got %v, want %v", item, got, want)
+		}
+	}
+	if l, ok := testplan.BOMLine(b, "certify copper channels"); !ok || l.Work != cables {
+		t.Errorf("copper certification: got %+v", l)
+	}
+	if l, ok := testplan.BOMLine(b, "cable cat6a outdoor, 4-pair"); !ok || l.Quantity != leg.Cable.LengthM*cables {
+		t.Errorf("copper cable: got %+v, want %v m", l, leg.Cable.LengthM*cables)
+	}
+	for _, c := range r.Estimate.Buildings {
+		if c.Building == "B" && (c.SpliceTrays != 0 || c.CopperCables != leg.Cable.Cables || c.FibreStrands != 0) {
+			t.Errorf("building B: %+v", c)
+		}
+	}
+}
+
+// TestConstructionBore is TestConstruction with the proposed duct P built by directional
+// bore: its metres are bored, not trenched, no surface is restored, and the bill prices them
+// at the book's directional_bore_per_m; a book without that price is an error naming it.
+func TestConstructionBore(t *testing.T) {
+	t.Parallel()
+	campus := strings.Replace(testsite.PullCampus(25, 1), `"surface":"asphalt"`, `"surface":"asphalt","method":"bore"`, 1)
+	r, err := testplan.PullSolveJSON(t, campus, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	testplan.LegOf(t, r, "A-C")
+	if len(r.Opened) != 1 || !strings.HasPrefix(r.Opened[0], "P") {
+		t.Fatalf("opened: got %v, want P", r.Opened)
+	}
+	p, _ := r.Site.Net.Span(r.Opened[0])
+	con := r.Estimate.Construction
+	if math.Abs(con.BoreM-p.LengthM) > 1e-9 || con.TrenchM["asphalt"] != 0 || len(con.NewJunctions) != 1 {
+		t.Errorf("bore %.2f m (want %.2f), asphalt trench %.2f m (want 0), new junctions %v", con.BoreM, p.LengthM, con.TrenchM["asphalt"], con.NewJunctions)
+	}
+	b := r.Estimate.BOM
+	line, ok := testplan.BOMLine(b, "directional bore")
+	if !ok || line.Quantity != math.Round(p.LengthM*10)/10 || line.UnitCents != 11500 { // the demo book's 115.00 per metre
+		t.Errorf("directional bore line: got %+v (found %v), want %.1f m at 115.00", line, ok, p.LengthM)
+	}
+	for _, item := range []string{"trench, asphalt", "restoration, asphalt"} {
+		if q := testplan.BOMQty(b, item); q != 0 {
+			t.Errorf("%s: got %v, want none for a bored pathway", item, q)
+		}
+	}
+
+	book, err := os.ReadFile("../../media/prices-demo.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	noBore := strings.Replace(string(book), "directional_bore_per_m: 115.00\n", "", 1)
+	if noBore == string(book) {
+		t.Fatal("the demo price book has no directional_bore_per_m: 115.00 line to remove")
+	}
+	dir := t.TempDir()
+	if err := os.WriteFile(filepath.Join(dir, "prices.yaml"), []byte(noBore), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	_, err = testplan.PullSolveJSON(t, campus, func(p *plan.Plan) { p.Dir, p.Prices = dir, "prices.yaml" })
+	if err == nil || !errors.Is(err, media.ErrMissingPrice) || !strings.Contains(err.Error(), "directional_bore_per_m") {
+		t.Errorf("a bore without a bore price: got %v, want a missing directional_bore_per_m", err)
+	}
+	// The same book plans the campus when P is trenched.
+	if _, err := testplan.PullSolveJSON(t, testsite.PullCampus(25, 1), func(p *plan.Plan) { p.Dir, p.Prices = dir, "prices.yaml" }); err != nil {
+		t.Errorf("a book without bores, no bore in the plan: %v", err)
+	}
+}
+
+// TestInnerduct plans the pull campus with a 50 mm duct D, whose one spare duct takes the two
+// 24-strand cables of B and C side by side, with and without a 32/27 mm innerduct per cable.
+// With innerduct the duct fill counts the innerducts (NFPA 70 Chapter 9 Table 1: one at 41 %
+// of a 50 mm duct is within 53 %, two at 82 % are over 31 %), so where B's and C's routes share
+// D a duct is added; the bill adds the innerduct along every duct span and its placing pull,
+// and the legs' costs carry them at the demo book's 2.40 per metre and 92.00 per hour at 60 m
+// per hour, over the leg's duct metres (media.PriceBook.Cents). A cable too large for the
+// innerduct is kept off ducts.
+func TestInnerduct(t *testing.T) {
+	t.Parallel()
+	plain, err := testplan.PullSolve(t, 50, 1, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	inner, err := testplan.PullSolve(t, 50, 1, func(p *plan.Plan) { p.Design.InnerductODMM, p.Design.InnerductIDMM = 32, 27 })
+	if err != nil {
+		t.Fatal(err)
+	}
+	added := func(r *route.Result) int {
+		n := 0
+		for _, f := range r.Fill {
+			n += f.AddedDucts
+		}
+		return n
+	}
+	if added(plain) != 0 || added(inner) == 0 {
+		t.Errorf("added ducts: %d without innerduct (want 0), %d with (want some)", added(plain), added(inner))
+	}
+	for _, f := range plain.Estimate.Fill {
+		if f.Innerduct {
+			t.Errorf("span %s duct %d: innerduct in a plan without it", f.Span, f.Duct)
+		}
+	}
+	for _, f := range inner.Estimate.Fill {
+		if !f.Innerduct {
+			t.Errorf("span %s duct %d: not marked as innerducts", f.Span, f.Duct)
+		}
+		for _, od := range f.CablesODMM {
+			if od != 32 {
+				t.Errorf("span %s duct %d: an occupant of %g mm, want the 32 mm innerduct", f.Span, f.Duct, od)
+			}
+		}
+		if len(f.CablesODMM) != 1 || math.Abs(f.FillPct-100*32*32/(50*50.0)) > 1e-9 || !f.OK {
+			t.Errorf("span %s duct %d: %v at %.1f %% (ok %v), want one innerduct at 41 %%", f.Span, f.Duct, f.CablesODMM, f.FillPct, f.OK)
+		}
+	}
+	ductM := 0.0
+	for _, name := range []string{"A-B", "A-C"} {
+		_, lp := testplan.LegOf(t, plain, name)
+		_, li := testplan.LegOf(t, inner, name)
+		m := 0.0
+		for _, st := range li.Steps {
+			if sp, _ := inner.Site.Net.Span(st.SpanID); sp.Type == geo.TypeDuct {
+				m += sp.LengthM
+			}
+		}
+		ductM += m
+		labour, material := int64(math.Round(m*9200/60)), media.MulCents(240, m)
+		if got, want := li.Cost.LabourCents-lp.Cost.LabourCents, labour; got != want {
+			t.Errorf("%s: innerduct placing labour %d cents, want %d (92.00 per hour at 60 m per hour over %.1f m)", name, got, want, m)
+		}
+		if name == "A-B" { // A-C shares an added duct, so its construction share moves too
+			if got, want := li.Cost.ConstructionCents-lp.Cost.ConstructionCents, material; got != want {
+				t.Errorf("%s: innerduct material %d cents, want %d (2.40 per metre over %.1f m)", name, got, want, m)
+			}
+		}
+	}
+	if got, want := testplan.BOMQty(inner.Estimate.BOM, "innerduct 32/27 mm"), math.Round(ductM*10)/10; got != want {
+		t.Errorf("innerduct in the bill: %v m, want %v", got, want)
+	}
+	if l, ok := testplan.BOMLine(inner.Estimate.BOM, "place innerduct in duct"); !ok || math.Abs(l.Work-ductM) > 1e-6 || l.Quantity != math.Ceil(ductM/60*100)/100 {
+		t.Errorf("placing innerduct: got %+v (found %v), want %.2f m at 60 m per hour", l, ok, ductM)
+	}
+	if q := testplan.BOMQty(plain.Estimate.BOM, "innerduct 32/27 mm"); q != 0 {
+		t.Errorf("a plan without innerduct bills %v m of it", q)
+	}
+
+	small, err := testplan.PullSolve(t, 50, 1, func(p *plan.Plan) { p.Design.InnerductODMM, p.Design.InnerductIDMM = 12, 8 })
+	if err != nil && !errors.Is(err, route.ErrInfeasible) {
+		t.Fatal(err)
+	}
+	for _, l := range small.Legs {
+		if l.Feasible || !strings.Contains(l.Reason, "does not fit the 8 mm innerduct") {
+			t.Errorf("%s %s with an 8 mm innerduct: feasible %v, reason %q; want infeasible, kept off ducts", l.Link.ID, l.Name, l.Feasible, l.Reason)
+		}
+	}
+}
+
+// TestPullSidewallLimit sets design.pull_max_swbp_n_per_m below the sidewall bearing pressure
+// the plain plan reaches (SWBP = tension out of the bend over its radius, seen): every pull
+// section then keeps under it, with pull points added, or is flagged with the reason; a
+// limit above every bend's pressure changes nothing.
+func TestPullSidewallLimit(t *testing.T) {
+	t.Parallel()
+	plain, err := testplan.PullSolve(t, 100, 2, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	worst := 0.0
+	for _, p := range plain.Estimate.Pulls {
+		worst = math.Max(worst, p.SWBPNPerM)
+	}
+	if worst <= 0 {
+		t.Fatal("the plain plan has no bend under tension")
+	}
+	high, err := testplan.PullSolve(t, 100, 2, func(p *plan.Plan) { p.Design.PullMaxSWBPNPerM = 2 * worst })
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(high.Estimate.Pulls) != len(plain.Estimate.Pulls) || high.Estimate.AddedPullPoints != plain.Estimate.AddedPullPoints {
+		t.Errorf("a limit above every bend changed the pulls: %d sections and %d added points, want %d and %d",
+			len(high.Estimate.Pulls), high.Estimate.AddedPullPoints, len(plain.Estimate.Pulls), plain.Estimate.AddedPullPoints)
+	}
+	limit := worst / 2
+	low, err := testplan.PullSolve(t, 100, 2, func(p *plan.Plan) { p.Design.PullMaxSWBPNPerM = limit })
+	if err != nil {
+		t.Fatal(err)
+	}
+	changed := low.Estimate.AddedPullPoints > plain.Estimate.AddedPullPoints
+	for _, p := range low.Estimate.Pulls {
+		switch {
+		case p.SWBPNPerM <= limit+1e-9:
+		case !p.WithinRating && strings.Contains(p.Reason, "sidewall pressure"):
+			changed = true
+		default:
+			t.Errorf("pull %s → %s: sidewall pressure %.1f N/m over the %.1f N/m limit, within %v (%s)", p.From, p.To, p.SWBPNPerM, limit, p.WithinRating, p.Reason)
+		}
+	}
+	if !changed {
+		t.Errorf("a limit of half the worst sidewall pressure added no pull point and flagged no pull")
+	}
+}
+
+// TestEntranceTransition gives the pull campus 40 m risers in every building, beyond what
+// unlisted outside-plant cable may run inside (NFPA 70 Article 770: 15 m past the entrance,
+// seen as fragment), and a price book with an entrance splice enclosure: B's leg then
+// runs outside-plant cable between the entrances, spliced at both to listed riser cable,
+// which the bill buys for the risers and the service coils; the loss budget counts the two
+// transition splices (ANSI/TIA-568.3-D 0.3 dB each, from memory) and the riser cable's inside
+// attenuation. Without the enclosure price the leg keeps indoor/outdoor cable.
+func TestEntranceTransition(t *testing.T) {
+	t.Parallel()
+	campus := strings.ReplaceAll(testsite.PullCampus(100, 2), `"kind":"building",`, `"kind":"building","riser_m":40,`)
+	book, err := os.ReadFile("../../media/prices-demo.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Indoor/outdoor single-mode at 6.26 a metre instead of 3.26, so that over this short route
+	// the two transitions (enclosures, trays and 48 splices) cost less than it.
+	const demoLine = "transition_splice_each: 260.00\n"
+	priced := strings.Replace(string(book), "indoor-outdoor: {12: 2.02, 24: 3.26,", "indoor-outdoor: {12: 2.02, 24: 6.26,", 1)
+	if priced == string(book) || !strings.Contains(priced, demoLine) {
+		t.Fatal("the demo book's os2 indoor-outdoor or transition prices moved")
+	}
+	dir := t.TempDir()
+	if err := os.WriteFile(filepath.Join(dir, "prices.yaml"), []byte(strings.Replace(priced, demoLine, "transition_splice_each: 5.00\n", 1)), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(filepath.Join(dir, "none.yaml"), []byte(strings.Replace(priced, demoLine, "", 1)), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	plain, err := testplan.PullSolveJSON(t, campus, func(p *plan.Plan) { p.Dir, p.Prices = dir, "none.yaml" })
+	if err != nil {
+		t.Fatal(err)
+	}
+	tr, err := testplan.PullSolveJSON(t, campus, func(p *plan.Plan) { p.Dir, p.Prices = dir, "prices.yaml" })
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, lp := testplan.LegOf(t, plain, "A-B")
+	_, lt := testplan.LegOf(t, tr, "A-B")
+	if lp.Construction != "indoor-outdoor" || lp.Inside != "" {
+		t.Fatalf("without the enclosure price: %s + %q, want indoor-outdoor", lp.Construction, lp.Inside)
+	}
+	if lt.Construction != "osp-loose-tube" || lt.Inside != "ofnr-riser" || lt.ConstructionText() != "osp-loose-tube + ofnr-riser at entrances" {
+		t.Fatalf("with it: %s + %q (%s), want osp-loose-tube spliced to ofnr-riser", lt.Construction, lt.Inside, lt.Choice)
+	}
+	c := lt.Cable
+	if want := math.Ceil((80 + c.EndSlackM) * 1.05); c.InsideLengthM != want || c.LengthM != lp.Cable.LengthM {
+		t.Errorf("inside cable %.0f m of %.0f m bought, want %.0f of %.0f (risers 2 × 40 m and the service coils, 5 %% waste)",
+			c.InsideLengthM, c.LengthM, want, lp.Cable.LengthM)
+	}
+	for _, nm := range []int{1310} {
+		a, _ := lp.LossAt(nm)
+		b, _ := lt.LossAt(nm)
+		// Two splices at 0.3 dB, and the risers at 1.0 dB/km instead of 0.5 (80 m: 0.04 dB).
+		if d := b.LossDB - a.LossDB; math.Abs(d-(0.6+0.04)) > 0.011 {
+			t.Errorf("%d nm: the transition adds %.3f dB, want 0.64", nm, d)
+		}
+	}
+	b := tr.Estimate.BOM
+	if q := testplan.BOMQty(b, "entrance transition enclosure"); q < 2 {
+		t.Errorf("entrance transition enclosures: %v, want 2 for each transition leg", q)
+	}
+	if q := testplan.BOMQty(b, "cable os2 ofnr-riser, 24 strands"); q < c.InsideLengthM {
+		t.Errorf("riser cable bought: %v m, want at least B's %.0f m", q, c.InsideLengthM)
+	}
+	if l, ok := testplan.BOMLine(b, "splice fibre, entrance transitions"); !ok || l.Work < float64(2*c.Size.Count) {
+		t.Errorf("transition splicing: %+v (found %v), want at least %d splices", l, ok, 2*c.Size.Count)
+	}
+	files, err := output.Files(context.Background(), tr, output.WriteOptions{SkipWorkbook: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, f := range files {
+		if f.Name == "links.csv" && !bytes.Contains(f.Data, []byte("osp-loose-tube + ofnr-riser at entrances")) {
+			t.Errorf("links.csv does not show the transition:\n%s", f.Data)
+		}
+	}
+}

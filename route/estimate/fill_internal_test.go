@@ -1,0 +1,61 @@
+package estimate
+
+import (
+	"fmt"
+	"math"
+	"spanwright/geo"
+	"spanwright/media"
+	"spanwright/route/routing"
+	"spanwright/route/site"
+	"strings"
+	"testing"
+)
+
+// TestDuctFillJamBand: three equal cables in one spare duct. NFPA 70 Chapter 9 (seen):
+// 40 % fill for three or more; the 1.05·D/d jam band 2.8-3.2 (informative note, seen).
+func TestDuctFillJamBand(t *testing.T) {
+	t.Parallel()
+	const od = 10.5
+	cases := []struct {
+		name       string
+		idMM       float64
+		wantRows   []int // cables per duct row
+		ratio      float64
+		unplaced   bool
+		allowedPct float64
+	}{
+		// 1.05 × 31.5 / 10.5 = 3.15: in the band, so the third cable is refused (computed).
+		{"in the jam band", 31.5, []int{2}, 0, true, 31},
+		// 1.05 × 40 / 10.5 = 4.0, and 3 × 10.5² / 40² = 20.7 % of 40 % (computed).
+		{"clear of the band", 40, []int{3}, 4.0, false, 40},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			net := &geo.Network{Spans: []geo.Span{{ID: "S1", PathwayID: "P1", DuctMM: tc.idMM, LengthM: 10, Type: geo.TypeDuct}}}
+			r := &run{Input: Input{Site: &site.Site{Net: net},
+				Fill: []routing.SegmentFill{{Span: "S1", PathwayID: "P1", Cables: 3, Limited: true, Ducts: 1}}}, Estimate: &Estimate{}}
+			for range 3 {
+				r.Legs = append(r.Legs, routing.Leg{Feasible: true, Steps: []geo.Step{{SpanID: "S1"}},
+					Cable: routing.CableTakeoff{Size: media.Size{Count: 24, ODMM: od}, Cables: 1}})
+			}
+			r.ductFill()
+			var got []int
+			for _, f := range r.Estimate.Fill {
+				got = append(got, len(f.CablesODMM))
+				if f.AllowedPct != tc.allowedPct || math.Abs(f.JamRatio-tc.ratio) > 1e-9 || f.JamRisk || !f.OK {
+					t.Errorf("%s: row %+v, want limit %.0f %% and ratio %.2f", tc.name, f, tc.allowedPct, tc.ratio)
+				}
+				if want := 100 * float64(len(f.CablesODMM)) * od * od / (tc.idMM * tc.idMM); math.Abs(f.FillPct-want) > 1e-9 {
+					t.Errorf("%s: fill %.3f %%, want %.3f %%", tc.name, f.FillPct, want)
+				}
+			}
+			if fmt.Sprint(got) != fmt.Sprint(tc.wantRows) {
+				t.Errorf("%s: cables per duct %v, want %v", tc.name, got, tc.wantRows)
+			}
+			warned := len(r.Estimate.Warnings) == 1 && strings.Contains(r.Estimate.Warnings[0], "1 of 3 cables fit no duct")
+			if warned != tc.unplaced {
+				t.Errorf("%s: warnings %q", tc.name, r.Estimate.Warnings)
+			}
+		})
+	}
+}

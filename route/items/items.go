@@ -1,0 +1,172 @@
+package items
+
+import (
+	"fmt"
+	"slices"
+
+	"spanwright/geo"
+	"spanwright/media"
+	"spanwright/route/plan"
+	"spanwright/route/site"
+)
+
+// InnerductFits reports whether a cable of the given outside diameter fits the design's
+// innerduct: one cable at most 53 % of its inside area (NFPA 70 Chapter 9 Table 1, one cable).
+func InnerductFits(d plan.Design, cableODMM float64) bool {
+	return cableODMM*cableODMM <= 0.53*d.InnerductIDMM*d.InnerductIDMM
+}
+
+// Each function below lists, as bill quantities, what one priced thing of a route takes; the
+// bill of materials (package estimate) adds them up into its lines and the optimizer's
+// problem (package routing) prices them one span or one demand at a time with
+// media.PriceBook.Cents.
+
+// LabourHour is the price of an hour of labour; labour items carry their rate beside it.
+var LabourHour = media.PriceKey{Item: media.PriceLabourHour}
+
+// PathwayTypes are the pathway types in a fixed order, and pullItems the bill items of
+// pulling cable in each.
+var (
+	PathwayTypes = [...]string{geo.TypeAerial, geo.TypeBuried, geo.TypeDuct, geo.TypeTray, geo.TypeTunnel}
+	pullItems    = func() (m [len(PathwayTypes)]string) {
+		for i, t := range PathwayTypes {
+			m[i] = "pull cable in " + t
+		}
+		return m
+	}()
+)
+
+// Pull is pulling metres of one cable in a pathway of type typ.
+func Pull(typ string, metres float64) media.Quantity {
+	item := "pull cable in " + typ
+	if i := slices.Index(PathwayTypes[:], typ); i >= 0 {
+		item = pullItems[i]
+	}
+	return media.Quantity{Category: media.CategoryLabour, Item: item, Unit: media.UnitM, Amount: metres,
+		Price: LabourHour, Rate: media.PriceKey{Item: media.RatePull, Name: typ}}
+}
+
+// AlongSpan is what one cable takes along metres of a span of type typ besides the cable
+// itself: its pull, and in a duct with the design's innerduct, one innerduct for it and the
+// pull that places the innerduct.
+func AlongSpan(d plan.Design, typ string, metres float64) []media.Quantity {
+	q := []media.Quantity{Pull(typ, metres)}
+	if typ == geo.TypeDuct && d.Innerduct() {
+		q = append(q,
+			media.Quantity{Category: media.CategoryMaterial, Item: fmt.Sprintf("innerduct %g/%g mm", d.InnerductODMM, d.InnerductIDMM),
+				Unit: media.UnitM, Amount: metres, Price: media.PriceKey{Item: media.PriceInnerduct}},
+			media.Quantity{Category: media.CategoryLabour, Item: "place innerduct in duct", Unit: media.UnitM, Amount: metres,
+				Price: LabourHour, Rate: media.PriceKey{Item: media.RatePull, Name: geo.TypeDuct}})
+	}
+	return q
+}
+
+// LegEnds is what one cable takes at the ends of a leg besides the cable: risers, service
+// coils and entrance loops (coilsM) pulled in tray, laterals pulled buried.
+func LegEnds(riserM, coilsM, lateralM float64) []media.Quantity {
+	return []media.Quantity{Pull(geo.TypeTray, riserM+coilsM), Pull(geo.TypeBuried, lateralM)}
+}
+
+// StructureLoops is what one cable's slack loops of metres at structures take besides the
+// cable: they are pulled as duct.
+func StructureLoops(metres float64) []media.Quantity {
+	return []media.Quantity{Pull(geo.TypeDuct, metres)}
+}
+
+// Cable is metres of one cable of medium on construction k in size count (4-pair copper
+// when !fibre).
+func Cable(medium, k string, count int, fibre bool, metres float64) media.Quantity {
+	item := fmt.Sprintf("cable %s %s, %d strands", medium, k, count)
+	if !fibre {
+		item = fmt.Sprintf("cable %s %s, 4-pair", medium, k)
+	}
+	return media.Quantity{Category: media.CategoryMaterial, Item: item, Unit: media.UnitM, Amount: metres,
+		Price: media.PriceKey{Item: media.PriceCable, Medium: medium, Construction: k, Count: count}}
+}
+
+// Trench is new trench of metres on a surface, with its restoration.
+func Trench(surface string, metres float64) []media.Quantity {
+	return []media.Quantity{
+		{Category: media.CategoryConstruction, Item: "trench, " + surface, Unit: media.UnitM, Amount: metres,
+			Price: media.PriceKey{Item: media.PriceTrench, Name: surface}},
+		{Category: media.CategoryConstruction, Item: "restoration, " + surface, Unit: media.UnitM, Amount: metres,
+			Price: media.PriceKey{Item: media.PriceRestoration, Name: surface}}}
+}
+
+// Bore is metres of directional bore.
+func Bore(metres float64) media.Quantity {
+	return media.Quantity{Category: media.CategoryConstruction, Item: "directional bore", Unit: media.UnitM, Amount: metres,
+		Price: media.PriceKey{Item: media.PriceBore}}
+}
+
+// NewWork is new civil work along metres of a span: a bore when its method is bore, else
+// Trench and restoration of its surface.
+func NewWork(sp *geo.Span, metres float64) []media.Quantity {
+	if sp.Method == geo.MethodBore {
+		return []media.Quantity{Bore(metres)}
+	}
+	return Trench(SurfaceOf(sp), metres)
+}
+
+// AddedDuct is metres of duct laid in new work.
+func AddedDuct(metres float64) media.Quantity {
+	return media.Quantity{Category: media.CategoryConstruction, Item: "added duct", Unit: media.UnitM, Amount: metres,
+		Price: media.PriceKey{Item: media.PriceAddedDuct}}
+}
+
+// JoinHandholes is n handholes where new pathway joins the network.
+func JoinHandholes(n int) media.Quantity {
+	return media.Quantity{Category: media.CategoryConstruction, Item: "handhole where new pathway joins the network",
+		Unit: media.UnitEach, Amount: float64(n), Price: media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole}}
+}
+
+// Opening is what opening a proposed span takes: its new work, a duct when it is a duct, and
+// a handhole at each end that is a junction without a structure (see site.Site.JoinsNetwork).
+func Opening(s *site.Site, sp *geo.Span) []media.Quantity {
+	q := NewWork(sp, sp.LengthM)
+	if sp.Type == geo.TypeDuct {
+		q = append(q, AddedDuct(sp.LengthM))
+	}
+	n := 0
+	for _, j := range []string{sp.From, sp.To} {
+		if s.JoinsNetwork(j) {
+			n++
+		}
+	}
+	if n > 0 {
+		q = append(q, JoinHandholes(n))
+	}
+	return q
+}
+
+// SurfaceOf is the surface priced for new work on a span: its own, else turf.
+func SurfaceOf(sp *geo.Span) string {
+	if sp.Surface != "" {
+		return sp.Surface
+	}
+	return geo.SurfaceTurf
+}
+
+// KeysOf lists the prices and rates quantities need.
+func KeysOf(qs []media.Quantity) []media.PriceKey {
+	var keys []media.PriceKey
+	for _, q := range qs {
+		keys = append(keys, q.Price)
+		if q.Rate.Item != "" {
+			keys = append(keys, q.Rate)
+		}
+	}
+	return keys
+}
+
+// LoopM is the slack loop one cable leaves at junction id: design.slack_loop_structure_m at a
+// maintenance hole or handhole, else none.
+func LoopM(s *site.Site, d plan.Design, id string) float64 {
+	if s.LoopStructure(id) {
+		return d.SlackLoopStructureM
+	}
+	return 0
+}
+
+// wasted is metres of cable with the design's waste.
+func Wasted(d plan.Design, metres float64) float64 { return metres * (1 + d.WastePct/100) }

@@ -1,0 +1,325 @@
+package output
+
+import (
+	"bytes"
+	"context"
+	"fmt"
+	"strconv"
+	"strings"
+
+	"spanwright/media"
+	"spanwright/media/install"
+	"spanwright/route"
+	"spanwright/route/escape"
+	"spanwright/route/routing"
+	"spanwright/route/workbook"
+)
+
+// Markup rows of a bill of materials, after its lines and subtotals.
+const (
+	rowSubtotal    = "subtotal"
+	rowContingency = "contingency"
+	rowOverhead    = "overhead"
+	rowTax         = "tax"
+	rowTotal       = "total"
+)
+
+// bomUnit is a BOM line's unit, quantity and unit price at the output edge: metres become
+// feet (the unit price per foot then carries fractions of a cent) when imperial. The
+// extended price never changes: it is the metric line's, in whole cents.
+func bomUnit(opt WriteOptions, l media.BOMLine) (unit string, qty, unitPrice float64) {
+	unit, qty, unitPrice = l.Unit, l.Quantity, float64(l.UnitCents)/100
+	if opt.imperial() && l.Unit == media.UnitM {
+		return "ft", install.MToFt(l.Quantity), unitPrice * install.MPerFt
+	}
+	return unit, qty, unitPrice
+}
+
+// qtyDecimals is how many decimals a BOM quantity shows: counts none, lengths one, hours two.
+func qtyDecimals(unit string) int {
+	switch unit {
+	case media.UnitEach:
+		return 0
+	case media.UnitHour:
+		return 2
+	}
+	return 1
+}
+
+// describe is a BOM line's item at the output edge, labour work in feet when imperial.
+func describe(opt WriteOptions, l media.BOMLine) string {
+	if opt.imperial() {
+		return l.Describe(install.MToFt, "ft")
+	}
+	return l.Describe(nil, "")
+}
+
+func pct(bp int64) string { return strconv.FormatFloat(float64(bp)/100, 'f', 2, 64) }
+
+// bomCSV renders bom.csv: one row per line (category, item, unit, quantity, unit price,
+// extended price), then a subtotal row per category and for all, contingency, overhead,
+// tax and total. Money has two decimals; imperial unit prices per foot have six, and are the
+// extended price over the feet shown, so that each row multiplies out.
+func bomCSV(r *route.Result, opt WriteOptions) ([]byte, error) {
+	b := r.Estimate.BOM
+	cur := strings.ToLower(b.Currency)
+	var buf bytes.Buffer
+	w := escape.NewWriter(&buf)
+	w.Write([]string{"category", "item", "unit", "quantity", "unit_price_" + cur, "extended_" + cur})
+	for _, l := range b.Lines {
+		unit, qty, price := bomUnit(opt, l)
+		q, p := strconv.FormatFloat(qty, 'f', qtyDecimals(unit), 64), media.FormatCents(l.UnitCents)
+		if unit == "ft" {
+			// The price per foot that makes the row multiply out: the extended price (the
+			// metric line's, in whole cents) over the quantity as shown, to six decimals, so
+			// that quantity × unit price is the extended price to the cent.
+			shown, _ := strconv.ParseFloat(q, 64)
+			if shown > 0 {
+				price = float64(l.ExtendedCents) / 100 / shown
+			}
+			p = strconv.FormatFloat(price, 'f', 6, 64)
+		}
+		w.Write([]string{l.Category, describe(opt, l), unit, q, p, media.FormatCents(l.ExtendedCents)})
+	}
+	for _, s := range b.Subtotal {
+		w.Write([]string{rowSubtotal, s.Category, "", "", "", media.FormatCents(s.Cents)})
+	}
+	w.Write([]string{rowSubtotal, "all categories", "", "", "", media.FormatCents(b.SubtotalCents)})
+	w.Write([]string{rowContingency, pct(b.ContingencyBP) + " % of the subtotal", "%", pct(b.ContingencyBP),
+		media.FormatCents(b.SubtotalCents), media.FormatCents(b.ContingencyCents)})
+	w.Write([]string{rowOverhead, pct(b.OverheadBP) + " % of the subtotal", "%", pct(b.OverheadBP),
+		media.FormatCents(b.SubtotalCents), media.FormatCents(b.OverheadCents)})
+	taxBase := b.SubtotalCents + b.ContingencyCents + b.OverheadCents
+	w.Write([]string{rowTax, pct(b.TaxBP) + " % of subtotal, contingency and overhead", "%", pct(b.TaxBP),
+		media.FormatCents(taxBase), media.FormatCents(b.TaxCents)})
+	w.Write([]string{rowTotal, b.Label, "", "", "", media.FormatCents(b.TotalCents)})
+	if err := w.Flush(); err != nil {
+		return nil, err
+	}
+	return buf.Bytes(), nil
+}
+
+// units of the workbook's physical columns.
+type xlUnits struct {
+	length, force, swbp, diameter string
+	m, n, nPerM, mm               func(float64) float64
+}
+
+func xlUnitsOf(opt WriteOptions) xlUnits {
+	id := func(x float64) float64 { return x }
+	if opt.imperial() {
+		return xlUnits{"ft", "lbf", "lbf/ft", "in", install.MToFt, install.NToLbf, install.NPerMToLbfPerFt,
+			func(mm float64) float64 { return mm / install.MMPerIn }}
+	}
+	return xlUnits{"m", "N", "N/m", "mm", id, id, id, id}
+}
+
+// bomXLSX renders bom.xlsx: sheets summary, links (the cable schedule), bill of materials,
+// pull sections, duct fill and loss budgets. Extended prices, subtotals, markups, the
+// total and the budget check are formulas, so a changed unit price or quantity moves
+// them. Physical quantities are numbers with their unit in the header.
+func bomXLSX(ctx context.Context, r *route.Result, opt WriteOptions) ([]byte, error) {
+	u := xlUnitsOf(opt)
+	b := r.Estimate.BOM
+	cur := b.Currency
+	wb := workbook.New()
+	sum := wb.AddSheet("summary", workbook.Column{Name: "figure"}, workbook.Column{Name: "value", Width: 22}, workbook.Column{Name: "unit"})
+	links := wb.AddSheet("links",
+		workbook.Column{Name: "link"}, workbook.Column{Name: "leg"}, workbook.Column{Name: "from"}, workbook.Column{Name: "to"},
+		workbook.Column{Name: "rate"}, workbook.Column{Name: "medium"}, workbook.Column{Name: "application"},
+		workbook.Column{Name: "construction"}, workbook.Column{Name: "strands"}, workbook.Column{Name: "cables"},
+		workbook.Column{Name: "cable OD", Unit: u.diameter}, workbook.Column{Name: "route", Unit: u.length},
+		workbook.Column{Name: "risers", Unit: u.length}, workbook.Column{Name: "slack loops", Unit: u.length},
+		workbook.Column{Name: "structures passed"}, workbook.Column{Name: "cable bought", Unit: u.length},
+		workbook.Column{Name: "reels"}, workbook.Column{Name: "mid-span splices"}, workbook.Column{Name: "pull sections"},
+		workbook.Column{Name: "highest pull", Unit: u.force}, workbook.Column{Name: "rated pull", Unit: u.force},
+		workbook.Column{Name: "model cost", Unit: cur}, workbook.Column{Name: "feasible"}, workbook.Column{Name: "note"})
+	links.Filter = true
+	bom := wb.AddSheet("bill of materials", workbook.Column{Name: "category"}, workbook.Column{Name: "item"},
+		workbook.Column{Name: "unit"}, workbook.Column{Name: "quantity"}, workbook.Column{Name: "unit price", Unit: cur},
+		workbook.Column{Name: "extended", Unit: cur})
+	bom.Filter = true
+	pulls := wb.AddSheet("pull sections",
+		workbook.Column{Name: "link"}, workbook.Column{Name: "leg"}, workbook.Column{Name: "pull"},
+		workbook.Column{Name: "from"}, workbook.Column{Name: "to"}, workbook.Column{Name: "feed at"},
+		workbook.Column{Name: "spans"}, workbook.Column{Name: "start", Unit: u.length}, workbook.Column{Name: "length", Unit: u.length},
+		workbook.Column{Name: "bends", Unit: "deg"}, workbook.Column{Name: "bend radius", Unit: u.length},
+		workbook.Column{Name: "tension", Unit: u.force}, workbook.Column{Name: "other way", Unit: u.force},
+		workbook.Column{Name: "rated", Unit: u.force}, workbook.Column{Name: "of rating", Unit: "%"},
+		workbook.Column{Name: "sidewall pressure", Unit: u.swbp}, workbook.Column{Name: "added at from"},
+		workbook.Column{Name: "added at to"}, workbook.Column{Name: "within rating"}, workbook.Column{Name: "reason"})
+	pulls.Filter = true
+	fill := wb.AddSheet("duct fill",
+		workbook.Column{Name: "span"}, workbook.Column{Name: "pathway"}, workbook.Column{Name: "duct"},
+		workbook.Column{Name: "added"}, workbook.Column{Name: "duct ID", Unit: u.diameter}, workbook.Column{Name: "cables"},
+		workbook.Column{Name: odsHeader(r), Unit: u.diameter}, workbook.Column{Name: "fill", Unit: "%"},
+		workbook.Column{Name: "NFPA 70 limit", Unit: "%"}, workbook.Column{Name: "jam ratio 1.05 D/d"},
+		workbook.Column{Name: "in jam band 2.8-3.2"}, workbook.Column{Name: "ok"})
+	fill.Filter = true
+	loss := wb.AddSheet("loss budgets",
+		workbook.Column{Name: "link"}, workbook.Column{Name: "leg"}, workbook.Column{Name: "medium"},
+		workbook.Column{Name: "application"}, workbook.Column{Name: "construction"}, workbook.Column{Name: "wavelength", Unit: "nm"},
+		workbook.Column{Name: "channel", Unit: u.length}, workbook.Column{Name: "connector pairs"},
+		workbook.Column{Name: "splices"}, workbook.Column{Name: "loss", Unit: "dB"}, workbook.Column{Name: "limit", Unit: "dB"},
+		workbook.Column{Name: "margin", Unit: "dB"}, workbook.Column{Name: "field test limit", Unit: "dB"},
+		workbook.Column{Name: "operating"})
+	loss.Filter = true
+
+	// Bill of materials: lines, then subtotals, markups and the total, all formulas.
+	n := len(b.Lines)
+	for i, l := range b.Lines {
+		row := i + 2
+		unit, qty, price := bomUnit(opt, l)
+		dq, dp := qtyDecimals(unit), 2
+		if unit == "ft" {
+			dp = 4
+		}
+		bom.Append(workbook.Text(l.Category), workbook.Text(describe(opt, l)), workbook.Text(unit), workbook.Number(qty, dq),
+			workbook.Number(price, dp), workbook.Formula(fmt.Sprintf("ROUND(%s*%s,2)", workbook.Ref(3, row), workbook.Ref(4, row)), 2))
+	}
+	last := max(n+1, 2)
+	catRange, extRange := fmt.Sprintf("$A$2:$A$%d", last), fmt.Sprintf("$F$2:$F$%d", last)
+	bom.Append()
+	subRow := map[string]int{}
+	for _, s := range b.Subtotal {
+		subRow[s.Category] = bom.Rows() + 2
+		bom.Append(workbook.Text(rowSubtotal), workbook.Text(s.Category), workbook.Blank(), workbook.Blank(), workbook.Blank(),
+			workbook.Formula(fmt.Sprintf("SUMIF(%s,%q,%s)", catRange, s.Category, extRange), 2))
+	}
+	allRow := bom.Rows() + 2
+	var parts []string
+	for _, s := range b.Subtotal {
+		parts = append(parts, workbook.Ref(5, subRow[s.Category]))
+	}
+	bom.Append(workbook.Text(rowSubtotal), workbook.Text("all categories"), workbook.Blank(), workbook.Blank(), workbook.Blank(),
+		workbook.Formula(strings.Join(parts, "+"), 2))
+	markup := func(name, what string, bp int64, base string) int {
+		row := bom.Rows() + 2
+		bom.Append(workbook.Text(name), workbook.Text(what), workbook.Text("%"), workbook.Number(float64(bp)/100, 2),
+			workbook.Formula(base, 2), workbook.Formula(fmt.Sprintf("ROUND(%s*%s/100,2)", workbook.Ref(3, row), workbook.Ref(4, row)), 2))
+		return row
+	}
+	all := workbook.Ref(5, allRow)
+	contRow := markup(rowContingency, "% of the subtotal", b.ContingencyBP, all)
+	overRow := markup(rowOverhead, "% of the subtotal", b.OverheadBP, all)
+	cont, over := workbook.Ref(5, contRow), workbook.Ref(5, overRow)
+	taxRow := markup(rowTax, "% of subtotal, contingency and overhead", b.TaxBP, all+"+"+cont+"+"+over)
+	totalRow := bom.Rows() + 2
+	bom.Append(workbook.Text(rowTotal), workbook.Text(b.Label), workbook.Blank(), workbook.Blank(), workbook.Blank(),
+		workbook.Formula(all+"+"+cont+"+"+over+"+"+workbook.Ref(5, taxRow), 2))
+	ref := func(row int) string { return "'bill of materials'!" + workbook.Ref(5, row) }
+
+	// Summary: figures, then the money as formulas on the bill of materials.
+	s := Summarize(r)
+	text := func(fig, v string) { sum.Append(workbook.Text(fig), workbook.Text(v)) }
+	num := func(fig string, v float64, d int, unit string) {
+		sum.Append(workbook.Text(fig), workbook.Number(v, d), workbook.Text(unit))
+	}
+	money := func(fig, formula string) {
+		sum.Append(workbook.Text(fig), workbook.Formula(formula, 2), workbook.Text(cur))
+	}
+	text("scenario", s.Scenario)
+	text("hub", s.Hub)
+	text("price book", b.Label+", prices of "+r.Engine.PriceBook().PricesDate)
+	num("links", float64(s.Links), 0, "")
+	num("legs", float64(s.Legs), 0, "")
+	num("infeasible legs", float64(s.Infeasible), 0, "")
+	num("route", u.m(s.TotalRouteM), 1, u.length)
+	num("cable bought", u.m(s.CableM), 1, u.length)
+	num("new trench", u.m(s.NewTrenchM), 1, u.length)
+	num("pull sections", float64(s.PullSections), 0, "")
+	num("added pull points", float64(s.AddedPullPoints), 0, "")
+	for _, c := range b.Subtotal {
+		money(c.Category, ref(subRow[c.Category]))
+	}
+	money("subtotal", ref(allRow))
+	money("contingency", ref(contRow))
+	money("overhead", ref(overRow))
+	money("tax", ref(taxRow))
+	totalAt := sum.Rows() + 2
+	money("total", ref(totalRow))
+	budgetAt := sum.Rows() + 2
+	sum.Append(workbook.Text("budget"), workbook.Cents(s.BudgetCents), workbook.Text(cur))
+	tot, bud := workbook.Ref(1, totalAt), workbook.Ref(1, budgetAt)
+	money("over (+) or under (-) budget", fmt.Sprintf("IF(%s>0,%s-%s,0)", bud, tot, bud))
+	sum.Append(workbook.Text("over (+) or under (-) budget"), workbook.Formula(fmt.Sprintf("IF(%s>0,ROUND(100*(%s-%s)/%s,1),0)", bud, tot, bud, bud), 1), workbook.Text("%"))
+	sum.Append(workbook.Text("model cost (legs, no markups)"), workbook.Cents(s.ModelCents), workbook.Text(cur))
+	num("warnings", float64(s.WarningCount), 0, "")
+
+	// Cable schedule.
+	pullsOf, hiOf := map[int]int{}, map[int]float64{}
+	for _, p := range r.Estimate.Pulls {
+		pullsOf[p.Leg]++
+		if p.TensionN > hiOf[p.Leg] {
+			hiOf[p.Leg] = p.TensionN
+		}
+	}
+	for i := range r.Legs {
+		l := &r.Legs[i]
+		t := l.Cable
+		cells := []workbook.Cell{workbook.Text(l.Link.ID), workbook.Text(l.Name), workbook.Text(l.Link.From), workbook.Text(l.Link.To),
+			workbook.Text(l.Link.Rate)}
+		if !l.Feasible {
+			cells = append(cells, make([]workbook.Cell, 16)...)
+			cells = append(cells, workbook.Cents(l.Cost.TotalCents()), workbook.Bool(false), workbook.Text(l.Reason))
+			links.Append(cells...)
+			continue
+		}
+		hi := hiOf[i]
+		rated := r.Engine.Catalog().Medium(l.Medium).Construction(l.Construction).MaxPullN
+		cells = append(cells, workbook.Text(l.Medium), workbook.Text(l.Application), workbook.Text(l.ConstructionText()),
+			workbook.Int(int64(l.StrandsCable)), workbook.Int(int64(t.Cables)), workbook.Number(u.mm(t.Size.ODMM), 1),
+			workbook.Number(u.m(l.RouteM), 1), workbook.Number(u.m(l.RiserM), 1), workbook.Number(u.m(t.SlackM()), 1),
+			workbook.Int(int64(t.Structures)), workbook.Number(u.m(t.LengthM), 1), workbook.Int(int64(t.Reels)),
+			workbook.Int(int64(t.Joins)), workbook.Int(int64(pullsOf[i])), workbook.Number(u.n(hi), 1), workbook.Number(u.n(rated), 1),
+			workbook.Cents(l.Cost.TotalCents()), workbook.Bool(true), workbook.Text(l.Reason))
+		links.Append(cells...)
+	}
+	for _, p := range r.Estimate.Pulls {
+		l := &r.Legs[p.Leg]
+		pulls.Append(workbook.Text(l.Link.ID), workbook.Text(l.Name), workbook.Int(int64(p.Seq)), workbook.Text(p.From),
+			workbook.Text(p.To), workbook.Text(p.FeedAt), workbook.Text(strings.Join(p.Spans, " ")),
+			workbook.Number(u.m(p.StartM), 1), workbook.Number(u.m(p.LengthM), 1), workbook.Number(p.BendDeg, 1),
+			workbook.Number(u.m(p.BendRadiusM), 2), workbook.Number(u.n(p.TensionN), 1), workbook.Number(u.n(p.OtherN), 1),
+			workbook.Number(u.n(p.RatedN), 1), workbook.Number(100*p.TensionN/p.RatedN, 1), workbook.Number(u.nPerM(p.SWBPNPerM), 1),
+			workbook.Bool(p.AddedFrom), workbook.Bool(p.AddedTo), workbook.Bool(p.WithinRating), workbook.Text(p.Reason))
+	}
+	for _, f := range r.Estimate.Fill {
+		ods := make([]string, len(f.CablesODMM))
+		for i, od := range f.CablesODMM {
+			ods[i] = strconv.FormatFloat(u.mm(od), 'f', 2, 64)
+		}
+		jam := workbook.Blank()
+		if f.JamRatio > 0 {
+			jam = workbook.Number(f.JamRatio, 2)
+		}
+		fill.Append(workbook.Text(f.Span), workbook.Text(f.PathwayID), workbook.Int(int64(f.Duct)), workbook.Bool(f.Added),
+			workbook.Number(u.mm(f.DuctIDMM), 2), workbook.Int(int64(len(f.CablesODMM))), workbook.Text(strings.Join(ods, " ")),
+			workbook.Number(f.FillPct, 1), workbook.Number(f.AllowedPct, 0), jam, workbook.Bool(f.JamRisk), workbook.Bool(f.OK))
+	}
+	for i := range r.Legs {
+		l := &r.Legs[i]
+		for _, x := range l.Losses {
+			row := []workbook.Cell{workbook.Text(l.Link.ID), workbook.Text(l.Name), workbook.Text(l.Medium), workbook.Text(l.Application),
+				workbook.Text(l.ConstructionText()), workbook.Int(int64(x.WavelengthNM)), workbook.Number(u.m(l.Cable.ChannelM), 1),
+				workbook.Int(routing.ConnectorPairs), workbook.Int(int64(l.Cable.Joins)), workbook.Number(x.LossDB, 2)}
+			if x.Operating {
+				row = append(row, workbook.Number(x.LimitDB, 2), workbook.Number(x.MarginDB, 2))
+			} else {
+				row = append(row, workbook.Blank(), workbook.Blank())
+			}
+			row = append(row, workbook.Number(x.FieldLimitDB, 2), workbook.Bool(x.Operating))
+			loss.Append(row...)
+		}
+	}
+	return wb.BytesContext(ctx)
+}
+
+// odsHeader names the duct fill sheet's diameters column: the cables', or the innerducts'
+// that hold them.
+func odsHeader(r *route.Result) string {
+	if r.Plan != nil && r.Plan.Design.Innerduct() {
+		return "innerduct ODs (one per cable)"
+	}
+	return "cable ODs"
+}

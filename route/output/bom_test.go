@@ -1,0 +1,284 @@
+package output
+
+import (
+	"bytes"
+	"context"
+	"fmt"
+	"math"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"spanwright/media"
+	"spanwright/route/internal/testplan"
+	"spanwright/route/plan"
+	"spanwright/route/workbook"
+	"strconv"
+	"strings"
+	"testing"
+)
+
+// TestBOMOutputsAddUp parses bom.csv of the demo and checks that every subtotal is the sum
+// of its lines, every extended price its quantity times unit price, and the markups and
+// total those of the price book; summary.json says the same.
+func TestBOMOutputsAddUp(t *testing.T) {
+	t.Parallel()
+	r := testplan.DemoResult(t)
+	files, err := Files(context.Background(), r, WriteOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	rows := testplan.ReadCSV(t, testplan.FileOf(t, files, "bom.csv"))
+	if got := strings.Join(rows[0], ","); got != "category,item,unit,quantity,unit_price_usd,extended_usd" {
+		t.Fatalf("header: %s", got)
+	}
+	cents := func(s string) int64 {
+		c, err := plan.ParseCents(strings.TrimPrefix(s, "-"))
+		if err != nil {
+			t.Fatalf("amount %q: %v", s, err)
+		}
+		return c
+	}
+	byCat := map[string]int64{}
+	sub := map[string]int64{}
+	var all, cont, over, tax, total int64
+	for _, row := range rows[1:] {
+		switch row[0] {
+		case media.CategoryMaterial, media.CategoryLabour, media.CategoryConstruction, media.CategoryOptics:
+			qty, _ := strconv.ParseFloat(row[3], 64)
+			if want := media.ExtendCents(int64(math.Round(qty*100)), cents(row[4])); cents(row[5]) != want {
+				t.Errorf("%s: extended %s, want %s", row[1], row[5], media.FormatCents(want))
+			}
+			byCat[row[0]] += cents(row[5])
+		case rowSubtotal:
+			if row[1] == "all categories" {
+				all = cents(row[5])
+			} else {
+				sub[row[1]] = cents(row[5])
+			}
+		case rowContingency:
+			cont = cents(row[5])
+		case rowOverhead:
+			over = cents(row[5])
+		case rowTax:
+			tax = cents(row[5])
+		case rowTotal:
+			total = cents(row[5])
+		}
+	}
+	var sum int64
+	for _, c := range media.Categories() {
+		if sub[c] != byCat[c] {
+			t.Errorf("%s: subtotal %d, lines sum to %d", c, sub[c], byCat[c])
+		}
+		sum += sub[c]
+	}
+	book := r.Engine.PriceBook()
+	if all != sum || cont != media.ApplyBP(all, book.ContingencyBP) || over != media.ApplyBP(all, book.OverheadBP) ||
+		tax != media.ApplyBP(all+cont+over, book.TaxBP) || total != all+cont+over+tax {
+		t.Errorf("totals: subtotal %d (sum %d), contingency %d, overhead %d, tax %d, total %d", all, sum, cont, over, tax, total)
+	}
+	s := Summarize(r)
+	if s.TotalCents != total || s.SubtotalCents != all || s.CostByCategory[media.CategoryLabour] != sub[media.CategoryLabour] ||
+		s.OverBudgetCents != total-s.BudgetCents || len(s.CostDrivers) != 5 {
+		t.Errorf("summary: %+v", s)
+	}
+	var model int64
+	for _, l := range r.Legs {
+		model += l.Cost.TotalCents()
+	}
+	if s.ModelCents != model {
+		t.Errorf("model cost: got %d, want %d", s.ModelCents, model)
+	}
+}
+
+// TestBOMWorkbook opens bom.xlsx back and checks its formulas and their results against
+// the bill of materials, then changes a unit price as an estimator would and checks that
+// the total moves by what the price book's markups give.
+func TestBOMWorkbook(t *testing.T) {
+	t.Parallel()
+	r := testplan.DemoResult(t)
+	b := r.Estimate.BOM
+	for _, opt := range []WriteOptions{{}, {Units: UnitsImperial}} {
+		t.Run("units "+opt.Units, func(t *testing.T) {
+			files, err := Files(context.Background(), r, opt)
+			if err != nil {
+				t.Fatal(err)
+			}
+			x, err := workbook.Open(testplan.FileOf(t, files, "bom.xlsx"))
+			if err != nil {
+				t.Fatal(err)
+			}
+			defer x.Close()
+			want := []string{"summary", "links", "bill of materials", "pull sections", "duct fill", "loss budgets"}
+			if got := x.Sheets(); fmt.Sprint(got) != fmt.Sprint(want) {
+				t.Fatalf("sheets: got %v, want %v", got, want)
+			}
+			const sh = "bill of materials"
+			num := func(sheet, ref string) float64 {
+				t.Helper()
+				v, err := x.Calc(sheet, ref)
+				if err != nil {
+					t.Fatal(err)
+				}
+				f, err := strconv.ParseFloat(v, 64)
+				if err != nil {
+					t.Fatalf("%s!%s: %q is not a number", sheet, ref, v)
+				}
+				return f
+			}
+			cents := func(f float64) int64 { return int64(math.Round(f * 100)) }
+			for i, l := range b.Lines {
+				row := i + 2
+				if f, _ := x.Formula(sh, fmt.Sprintf("F%d", row)); f != fmt.Sprintf("ROUND(D%d*E%d,2)", row, row) {
+					t.Errorf("F%d formula: %q", row, f)
+				}
+				if got := cents(num(sh, fmt.Sprintf("F%d", row))); got != l.ExtendedCents {
+					t.Errorf("%s: extended %d, want %d", l.Item, got, l.ExtendedCents)
+				}
+			}
+			n := len(b.Lines)
+			totalRow := n + 1 + 1 + len(b.Subtotal) + 5 // lines, a blank row, subtotals, all, three markups, total
+			if v, _ := x.Value(sh, fmt.Sprintf("A%d", totalRow)); v != rowTotal {
+				t.Fatalf("row %d is %q, not the total", totalRow, v)
+			}
+			totalRef := fmt.Sprintf("F%d", totalRow)
+			if got := cents(num(sh, totalRef)); got != b.TotalCents {
+				t.Errorf("total: got %d, want %d", got, b.TotalCents)
+			}
+			if got := cents(num("summary", "B21")); got != b.TotalCents {
+				v, _ := x.Value("summary", "A21")
+				t.Errorf("summary %s: got %d, want total %d", v, got, b.TotalCents)
+			}
+			if got := cents(num("summary", "B23")); got != b.TotalCents-int64(r.Plan.Budget) {
+				t.Errorf("summary over budget: got %d", got)
+			}
+			// An estimator raises the first line's unit price by 1.00 (per unit shown).
+			price := num(sh, "E2")
+			qty := num(sh, "D2")
+			if err := x.SetNumber(sh, "E2", price+1); err != nil {
+				t.Fatal(err)
+			}
+			book := r.Engine.PriceBook()
+			sub := b.SubtotalCents + cents(math.Round(qty*(price+1)*100)/100) - b.Lines[0].ExtendedCents
+			cont, over := media.ApplyBP(sub, book.ContingencyBP), media.ApplyBP(sub, book.OverheadBP)
+			moved := sub + cont + over + media.ApplyBP(sub+cont+over, book.TaxBP)
+			if got := cents(num(sh, totalRef)); got != moved || got == b.TotalCents {
+				t.Errorf("total after the edit: got %d, want %d (was %d)", got, moved, b.TotalCents)
+			}
+			if got := cents(num("summary", "B21")); got != moved {
+				t.Errorf("summary total after the edit: got %d, want %d", got, moved)
+			}
+		})
+	}
+}
+
+// TestImperialEdges: bom.csv in feet keeps the metric extended prices, and the pull
+// sheet's tensions are in pound-force.
+func TestImperialEdges(t *testing.T) {
+	t.Parallel()
+	r := testplan.DemoResult(t)
+	files, err := Files(context.Background(), r, WriteOptions{Units: UnitsImperial})
+	if err != nil {
+		t.Fatal(err)
+	}
+	rows := testplan.ReadCSV(t, testplan.FileOf(t, files, "bom.csv"))
+	b := r.Estimate.BOM
+	feet := 0
+	for i, l := range b.Lines {
+		row := rows[i+1]
+		if l.Unit != media.UnitM {
+			continue
+		}
+		feet++
+		qty, _ := strconv.ParseFloat(row[3], 64)
+		price, _ := strconv.ParseFloat(row[4], 64)
+		ext, _ := plan.ParseCents(row[5])
+		// 1 ft = 0.3048 m exactly: the quantity in feet times the price per foot is the
+		// metric line within the rounding of the shown figures.
+		if row[2] != "ft" || ext != l.ExtendedCents || math.Abs(qty*price-float64(l.ExtendedCents)/100) > 0.05*price+0.00005*qty+0.01 {
+			t.Errorf("%s: %v, want feet and %s", l.Item, row, media.FormatCents(l.ExtendedCents))
+		}
+	}
+	if feet == 0 {
+		t.Errorf("no length line")
+	}
+	x, err := workbook.Open(testplan.FileOf(t, files, "bom.xlsx"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer x.Close()
+	for ref, want := range map[string]string{"L1": "tension (lbf)", "I1": "length (ft)", "P1": "sidewall pressure (lbf/ft)"} {
+		if v, _ := x.Value("pull sections", ref); v != want {
+			t.Errorf("pull sections %s: got %q, want %q", ref, v, want)
+		}
+	}
+	v, _ := x.Value("pull sections", "L2")
+	lbf, _ := strconv.ParseFloat(v, 64)
+	// 1 lbf = 4.4482216152605 N exactly.
+	if want := r.Estimate.Pulls[0].TensionN / 4.4482216152605; math.Abs(lbf-want) > 1e-9 {
+		t.Errorf("tension: got %v lbf, want %v", lbf, want)
+	}
+	var out bytes.Buffer
+	if err := PrintSummary(&out, r, WriteOptions{Units: UnitsImperial}); err != nil {
+		t.Fatal(err)
+	}
+	if s := out.String(); !strings.Contains(s, " lbf rated") || !strings.Contains(s, " ft in all") || strings.Contains(s, " m ") {
+		t.Errorf("imperial summary:\n%s", s)
+	}
+}
+
+// TestBOMWorkbookOpenpyxl reads bom.xlsx with openpyxl (Debian package python3-openpyxl),
+// a reader written independently of excelize, and recomputes the total from the stored
+// quantities, unit prices and markup percentages with Python's decimal arithmetic.
+func TestBOMWorkbookOpenpyxl(t *testing.T) {
+	t.Parallel()
+	py := "/usr/bin/python3"
+	if err := exec.Command(py, "-c", "import openpyxl").Run(); err != nil {
+		if os.Getenv("CI") == "true" {
+			t.Fatalf("python3-openpyxl is needed in CI: %v", err)
+		}
+		t.Skip("python3-openpyxl not installed (apt-get install python3-openpyxl)")
+	}
+	r := testplan.DemoResult(t)
+	files, err := Files(context.Background(), r, WriteOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	path := filepath.Join(t.TempDir(), "bom.xlsx")
+	if err := os.WriteFile(path, testplan.FileOf(t, files, "bom.xlsx"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	script := `import sys, openpyxl
+from decimal import Decimal, ROUND_HALF_UP
+wb = openpyxl.load_workbook(sys.argv[1])
+ws = wb["bill of materials"]
+cent = Decimal("0.01")
+def rnd(x): return x.quantize(cent, rounding=ROUND_HALF_UP)
+sub, pct, formulas = Decimal(0), {}, 0
+for row in ws.iter_rows(min_row=2):
+    a, d, e, f = row[0].value, row[3].value, row[4].value, row[5].value
+    if a in ("material", "labour", "construction", "optics"):
+        assert isinstance(d, (int, float)) and isinstance(e, (int, float)), (a, d, e)
+        assert f == "=ROUND(D%d*E%d,2)" % (row[0].row, row[0].row), f
+        sub += rnd(Decimal(repr(d)) * Decimal(repr(e)))
+        formulas += 1
+    elif a in ("contingency", "overhead", "tax"):
+        pct[a] = Decimal(repr(d))
+cont = rnd(sub * pct["contingency"] / 100)
+over = rnd(sub * pct["overhead"] / 100)
+tax = rnd((sub + cont + over) * pct["tax"] / 100)
+print(wb.sheetnames)
+print(formulas, int((sub + cont + over + tax) * 100))
+print(wb["summary"]["B21"].value)
+`
+	out, err := exec.Command(py, "-c", script, path).CombinedOutput()
+	if err != nil {
+		t.Fatalf("openpyxl: %v\n%s", err, out)
+	}
+	b := r.Estimate.BOM
+	want := fmt.Sprintf("['summary', 'links', 'bill of materials', 'pull sections', 'duct fill', 'loss budgets']\n%d %d\n='bill of materials'!F%d\n",
+		len(b.Lines), b.TotalCents, len(b.Lines)+1+1+len(b.Subtotal)+5)
+	if string(out) != want {
+		t.Errorf("openpyxl read:\n%s\nwant:\n%s", out, want)
+	}
+}

@@ -1,0 +1,512 @@
+package output
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"fmt"
+	"io"
+	"maps"
+	"math"
+	"slices"
+	"strconv"
+	"strings"
+	"text/tabwriter"
+
+	"spanwright/geo"
+	"spanwright/media"
+	"spanwright/media/install"
+	"spanwright/route"
+	"spanwright/route/escape"
+	"spanwright/route/estimate"
+	"spanwright/route/fileset"
+	"spanwright/route/internal/ctxio"
+	"spanwright/route/routing"
+	"spanwright/route/site"
+)
+
+// Unit systems for the outputs' edges; inside, everything is metric.
+const (
+	UnitsMetric   = "metric"
+	UnitsImperial = "imperial"
+)
+
+// FtPerM converts metres to feet (1 ft = 0.3048 m exactly, by the 1959 international agreement).
+const FtPerM = 1 / 0.3048
+
+// WriteOptions says how outputs are rendered.
+type WriteOptions struct {
+	Units string // UnitsMetric (default) or UnitsImperial: CSV, XLSX and stdout only; JSON and GeoJSON stay metric
+	// SkipWorkbook leaves bom.xlsx out, for runs of many scenarios where the CSV is enough.
+	SkipWorkbook bool
+}
+
+func (o WriteOptions) imperial() bool { return o.Units == UnitsImperial }
+
+// lengthCol returns a length column's header and a formatter for its values.
+func (o WriteOptions) lengthCol(name string) (string, func(m float64) string) {
+	if o.imperial() {
+		return name + "_ft", func(m float64) string { return strconv.FormatFloat(m*FtPerM, 'f', 1, 64) }
+	}
+	return name + "_m", func(m float64) string { return strconv.FormatFloat(m, 'f', 1, 64) }
+}
+
+// Files renders every output file of the result in memory. When ctx is done it returns
+// ctx's error and no file.
+func Files(ctx context.Context, r *route.Result, opt WriteOptions) ([]fileset.OutputFile, error) {
+	routes, err := routesGeoJSON(ctx, r)
+	if err != nil {
+		return nil, err
+	}
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	links, err := linksCSV(r, opt)
+	if err != nil {
+		return nil, err
+	}
+	sum, err := summaryJSON(r)
+	if err != nil {
+		return nil, err
+	}
+	files := []fileset.OutputFile{
+		{Name: "routes.geojson", Data: routes},
+		{Name: "links.csv", Data: links},
+		{Name: "summary.json", Data: sum},
+	}
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	if r.Estimate == nil || r.Estimate.BOM == nil {
+		return files, nil
+	}
+	bom, err := bomCSV(r, opt)
+	if err != nil {
+		return nil, fmt.Errorf("bom.csv: %w", err)
+	}
+	files = append(files, fileset.OutputFile{Name: "bom.csv", Data: bom})
+	if !opt.SkipWorkbook {
+		xl, err := bomXLSX(ctx, r, opt)
+		if ctx.Err() != nil {
+			return nil, ctx.Err()
+		}
+		if err != nil {
+			return nil, fmt.Errorf("bom.xlsx: %w", err)
+		}
+		files = append(files, fileset.OutputFile{Name: "bom.xlsx", Data: xl})
+	}
+	return files, nil
+}
+
+// Write renders the outputs and writes them atomically into dir; when ctx is done it writes
+// nothing and returns ctx's error (see WriteFiles).
+func Write(ctx context.Context, r *route.Result, dir string, opt WriteOptions) error {
+	files, err := Files(ctx, r, opt)
+	if err != nil {
+		return err
+	}
+	return fileset.WriteFiles(ctx, dir, files, r.Inputs())
+}
+
+func round1(x float64) float64 {
+	v, _ := strconv.ParseFloat(strconv.FormatFloat(x, 'f', 1, 64), 64)
+	return v
+}
+
+func round2(x float64) float64 {
+	v, _ := strconv.ParseFloat(strconv.FormatFloat(x, 'f', 2, 64), 64)
+	return v
+}
+
+func routesGeoJSON(ctx context.Context, r *route.Result) ([]byte, error) {
+	var feats []geo.RouteFeature
+	for i := range r.Legs {
+		if err := ctxio.StopEvery(ctx, i); err != nil {
+			return nil, err
+		}
+		l := &r.Legs[i]
+		if !l.Feasible {
+			continue
+		}
+		props := map[string]any{
+			"link":         l.Link.ID,
+			"from":         l.Link.From,
+			"to":           l.Link.To,
+			"leg":          l.Name,
+			"rate":         l.Link.Rate,
+			"route_m":      round1(l.RouteM),
+			"riser_m":      round1(l.RiserM),
+			"pathways":     append([]string{}, l.Pathways...),
+			"medium":       l.Medium,
+			"application":  l.Application,
+			"construction": l.ConstructionText(),
+			"strands":      l.StrandsCable,
+			"reason":       l.Explain(),
+			"cost_cents":   l.Cost.TotalCents(),
+		}
+		for _, nm := range routing.Wavelengths {
+			if x, ok := l.LossAt(nm); ok {
+				props[fmt.Sprintf("loss_%d_db", nm)] = round2(x.LossDB)
+			}
+		}
+		if w, ok := l.WorstLoss(); ok {
+			props["limit_db"] = round2(w.LimitDB)
+			props["margin_db"] = round2(w.MarginDB)
+		}
+		feats = append(feats, geo.RouteFeature{FromBuilding: l.Link.To, ToBuilding: l.Link.From, Steps: l.Steps, Props: props})
+	}
+	var buf bytes.Buffer
+	if err := r.Site.Net.WriteRoutesContext(ctx, &buf, feats); err != nil {
+		return nil, err
+	}
+	return buf.Bytes(), nil
+}
+
+func linksCSV(r *route.Result, opt WriteOptions) ([]byte, error) {
+	var buf bytes.Buffer
+	w := escape.NewWriter(&buf)
+	routeH, routeF := opt.lengthCol("route")
+	latH, latF := opt.lengthCol("lateral")
+	riserH, riserF := opt.lengthCol("riser")
+	head := []string{"link", "leg", "from", "to", "rate", "future_rate", "strands", routeH, latH, riserH, "pathways",
+		"feasible", "medium", "application", "construction"}
+	for _, nm := range routing.Wavelengths {
+		head = append(head, fmt.Sprintf("loss_%d_db", nm))
+	}
+	for _, nm := range routing.Wavelengths {
+		head = append(head, fmt.Sprintf("field_limit_%d_db", nm))
+	}
+	cur := strings.ToLower(r.Currency)
+	if cur == "" {
+		cur = "cents"
+	}
+	head = append(head, "limit_db", "margin_db", "cost_"+cur, "cable_"+cur, "labour_"+cur, "construction_"+cur, "optics_"+cur, "reason")
+	w.Write(head)
+	db := func(x float64) string { return strconv.FormatFloat(x, 'f', 2, 64) }
+	for i := range r.Legs {
+		l := &r.Legs[i]
+		row := []string{l.Link.ID, l.Name, l.Link.From, l.Link.To, l.Link.Rate, l.Link.FutureRate,
+			strconv.Itoa(l.StrandsCable), routeF(l.RouteM), latF(l.LateralM), riserF(l.RiserM),
+			strings.Join(l.Pathways, " "), strconv.FormatBool(l.Feasible), l.Medium, l.Application, l.ConstructionText()}
+		for _, nm := range routing.Wavelengths {
+			if x, ok := l.LossAt(nm); ok {
+				row = append(row, db(x.LossDB))
+			} else {
+				row = append(row, "")
+			}
+		}
+		for _, nm := range routing.Wavelengths {
+			if x, ok := l.LossAt(nm); ok && x.FieldLimitDB > 0 {
+				row = append(row, db(x.FieldLimitDB))
+			} else {
+				row = append(row, "")
+			}
+		}
+		if wl, ok := l.WorstLoss(); ok {
+			row = append(row, db(wl.LimitDB), db(wl.MarginDB))
+		} else {
+			row = append(row, "", "")
+		}
+		c := l.Cost
+		row = append(row, media.FormatCents(c.TotalCents()), media.FormatCents(c.CableCents), media.FormatCents(c.LabourCents),
+			media.FormatCents(c.ConstructionCents), media.FormatCents(c.OpticsCents), l.Explain())
+		w.Write(row)
+	}
+	if err := w.Flush(); err != nil {
+		return nil, err
+	}
+	return buf.Bytes(), nil
+}
+
+// Summary is the machine-readable digest of a planned scenario (summary.json).
+type Summary struct {
+	Scenario     string  `json:"scenario"`
+	Hub          string  `json:"hub"`
+	Buildings    int     `json:"buildings"`
+	Links        int     `json:"links"`
+	Legs         int     `json:"legs"`
+	Infeasible   int     `json:"infeasible_legs"`
+	TotalRouteM  float64 `json:"total_route_m"`
+	NewTrenchM   float64 `json:"new_trench_m"`    // new civil work, trenched or bored: opened pathways and trenches for added ducts
+	DiverseLinks int     `json:"diverse_links"`   // links with two disjoint feasible legs
+	DiverseShort int     `json:"diverse_missing"` // links that asked for a diverse route and did not get one
+	// WorstMarginDB is the smallest loss margin of any feasible fibre leg; null when none.
+	WorstMarginDB *float64       `json:"worst_margin_db"`
+	MediaMix      map[string]int `json:"media_mix"` // feasible legs per medium
+	Currency      string         `json:"currency,omitempty"`
+	CableM        float64        `json:"cable_m"` // cable bought, every cable of every feasible leg, waste included
+
+	// TotalCents is the bill of materials' grand total: every line, contingency, overhead
+	// and tax.
+	TotalCents  int64 `json:"total_cents"`
+	BudgetCents int64 `json:"budget_cents"`
+	// OverBudgetCents is total minus budget: positive over, negative under; 0 without a budget.
+	OverBudgetCents int64   `json:"over_budget_cents"`
+	OverBudgetPct   float64 `json:"over_budget_pct"`
+	// ModelCents is the legs' costs summed (each leg's bill items priced one by one, its
+	// share of new trench and added duct; no building panels or enclosures, no markups): the
+	// cost model the routes were chosen by (README, "One cost model"), not a price.
+	ModelCents       int64            `json:"model_cents"`
+	CostByCategory   map[string]int64 `json:"cost_by_category_cents"` // BOM subtotals: material, labour, construction, optics
+	SubtotalCents    int64            `json:"subtotal_cents"`
+	ContingencyCents int64            `json:"contingency_cents"`
+	OverheadCents    int64            `json:"overhead_cents"`
+	TaxCents         int64            `json:"tax_cents"`
+	CostDrivers      []CostDriver     `json:"cost_drivers"` // the five largest BOM lines
+
+	PullSections    int `json:"pull_sections"`
+	AddedPullPoints int `json:"added_pull_points"`
+	PullsOverRating int `json:"pulls_over_rating"`
+	MidSpanSplices  int `json:"mid_span_splices"` // reel joins over all cables
+
+	WarningCount int `json:"warning_count"`
+	// WarningCounts splits WarningCount by source: network (noding), install (pulling,
+	// duct fill, bends) and budget.
+	WarningCounts map[string]int `json:"warning_counts"`
+	Warnings      []string       `json:"warnings"`
+}
+
+// CostDriver is one of the largest lines of the bill of materials.
+type CostDriver struct {
+	Category string  `json:"category"`
+	Item     string  `json:"item"`
+	Cents    int64   `json:"cents"`
+	Pct      float64 `json:"pct_of_subtotal"`
+}
+
+// newWorkM is the plan's new civil work in metres (Construction.NewM), 0 without an estimate.
+func newWorkM(e *estimate.Estimate) float64 {
+	if e == nil {
+		return 0
+	}
+	return e.Construction.NewM
+}
+
+// Summarize digests the result.
+func Summarize(r *route.Result) Summary {
+	s := Summary{Scenario: r.Plan.Name, Hub: r.Hub, Buildings: len(r.Site.Campus.Buildings),
+		Links: len(r.Links), Legs: len(r.Legs), Warnings: append([]string{}, r.Warnings...),
+		MediaMix: map[string]int{}, Currency: r.Currency, NewTrenchM: round1(newWorkM(r.Estimate)),
+		BudgetCents: int64(r.Plan.Budget)}
+	feasibleLegs := map[string]int{}
+	for _, l := range r.Legs {
+		s.ModelCents += l.Cost.TotalCents()
+		s.CableM += l.Cable.LengthM * float64(l.Cable.Cables)
+		s.MidSpanSplices += l.Cable.Joins * l.Cable.Cables
+		if !l.Feasible {
+			s.Infeasible++
+			continue
+		}
+		feasibleLegs[l.Link.ID]++
+		s.TotalRouteM += l.RouteM
+		if l.Medium != "" {
+			s.MediaMix[l.Medium]++
+		}
+		if _, ok := l.WorstLoss(); ok && (s.WorstMarginDB == nil || l.WorstMarginDB < *s.WorstMarginDB) {
+			m := round2(l.WorstMarginDB)
+			s.WorstMarginDB = &m
+		}
+	}
+	s.ModelCents += r.ExtraCents
+	s.TotalCents = s.ModelCents
+	s.WarningCounts = map[string]int{"network": len(r.Site.Net.Warnings)}
+	if e := r.Estimate; e != nil && e.BOM != nil {
+		b := e.BOM
+		s.TotalCents, s.SubtotalCents = b.TotalCents, b.SubtotalCents
+		s.ContingencyCents, s.OverheadCents, s.TaxCents = b.ContingencyCents, b.OverheadCents, b.TaxCents
+		s.CostByCategory = map[string]int64{}
+		for _, c := range b.Subtotal {
+			s.CostByCategory[c.Category] = c.Cents
+		}
+		for _, l := range b.Largest(5) {
+			d := CostDriver{Category: l.Category, Item: l.Describe(nil, ""), Cents: l.ExtendedCents}
+			if b.SubtotalCents > 0 {
+				d.Pct = round1(100 * float64(l.ExtendedCents) / float64(b.SubtotalCents))
+			}
+			s.CostDrivers = append(s.CostDrivers, d)
+		}
+		s.PullSections, s.AddedPullPoints = len(e.Pulls), e.AddedPullPoints
+		for _, p := range e.Pulls {
+			if !p.WithinRating {
+				s.PullsOverRating++
+			}
+		}
+		s.WarningCounts["install"] = len(e.Warnings)
+		s.WarningCounts["budget"] = 0
+		if e.BudgetWarning != "" {
+			s.WarningCounts["budget"] = 1
+		}
+	}
+	s.CableM = round1(s.CableM)
+	for _, l := range r.Links {
+		if l.Diverse {
+			if feasibleLegs[l.ID] == 2 {
+				s.DiverseLinks++
+			} else {
+				s.DiverseShort++
+			}
+		}
+	}
+	if s.BudgetCents > 0 {
+		s.OverBudgetCents = s.TotalCents - s.BudgetCents
+		s.OverBudgetPct = round1(100 * float64(s.OverBudgetCents) / float64(s.BudgetCents))
+	}
+	s.TotalRouteM = round1(s.TotalRouteM)
+	s.WarningCount = len(s.Warnings)
+	return s
+}
+
+func summaryJSON(r *route.Result) ([]byte, error) {
+	b, err := json.MarshalIndent(Summarize(r), "", "  ")
+	if err != nil {
+		return nil, fmt.Errorf("summary: %w", err)
+	}
+	return append(b, '\n'), nil
+}
+
+// PrintSummary writes a short human summary of the result: links and legs, media, cable
+// bought by construction, new construction, pulling, and the total against the budget,
+// lengths and forces in the units of opt.
+func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
+	s := Summarize(r)
+	unit, force := "m", "N"
+	length := func(m float64) string { return ftOrM(opt, m, 1) + " " + unit }
+	if opt.imperial() {
+		unit, force = "ft", "lbf"
+	}
+	t := escape.Terminal // ids and names from the input, each within a line
+	fmt.Fprintf(w, "plan %q: hub %s, %d links, %d legs, %s of route\n", s.Scenario, t(s.Hub), s.Links, s.Legs, length(s.TotalRouteM))
+	if s.Infeasible > 0 {
+		fmt.Fprintf(w, "%d legs infeasible:\n", s.Infeasible)
+		for _, l := range r.Legs {
+			if !l.Feasible {
+				fmt.Fprintf(w, "  %s %s: %s\n", t(l.Link.ID), t(l.Name), t(l.Reason))
+			}
+		}
+	}
+	if len(s.MediaMix) > 0 {
+		links := map[string]map[string]bool{}
+		for _, l := range r.Legs {
+			if l.Feasible {
+				if links[l.Medium] == nil {
+					links[l.Medium] = map[string]bool{}
+				}
+				links[l.Medium][l.Link.ID] = true
+			}
+		}
+		var mix []string
+		for _, m := range slices.Sorted(maps.Keys(s.MediaMix)) {
+			mix = append(mix, fmt.Sprintf("%s %d (%d legs)", t(m), len(links[m]), s.MediaMix[m]))
+		}
+		fmt.Fprintf(w, "links by medium: %s\n", strings.Join(mix, ", "))
+	}
+	byCons := map[string]float64{}
+	for _, l := range r.Legs {
+		if l.Feasible {
+			byCons[l.Medium+" "+l.Construction] += l.Cable.OutsideLengthM() * float64(l.Cable.Cables)
+			if l.Inside != "" {
+				byCons[l.Medium+" "+l.Inside] += l.Cable.InsideLengthM * float64(l.Cable.InsideCables)
+			}
+		}
+	}
+	if len(byCons) > 0 {
+		var parts []string
+		for _, k := range slices.Sorted(maps.Keys(byCons)) {
+			parts = append(parts, t(k)+" "+length(byCons[k]))
+		}
+		fmt.Fprintf(w, "cable bought: %s (%s in all, %d mid-span splices)\n", strings.Join(parts, ", "), length(s.CableM), s.MidSpanSplices)
+	}
+	e := r.Estimate
+	if e == nil || e.BOM == nil {
+		if s.WarningCount > 0 {
+			fmt.Fprintf(w, "%d warnings (see summary.json)\n", s.WarningCount)
+		}
+		return nil
+	}
+	c := e.Construction
+	bored := ""
+	if c.BoreM > 0 {
+		bored = " (" + length(c.BoreM) + " of it bored)"
+	}
+	fmt.Fprintf(w, "construction: new trench %s%s, added duct %s, %d handholes where new pathway joins, %d for added pull points\n",
+		length(c.NewM), bored, length(c.AddedDuctM), len(c.NewJunctions), e.AddedPullPoints)
+	if len(e.Pulls) > 0 {
+		hi := e.Pulls[0]
+		for _, p := range e.Pulls {
+			if p.TensionN/p.RatedN > hi.TensionN/hi.RatedN {
+				hi = p
+			}
+		}
+		tn, rated := hi.TensionN, hi.RatedN
+		if opt.imperial() {
+			tn, rated = install.NToLbf(tn), install.NToLbf(rated)
+		}
+		fmt.Fprintf(w, "pulling: %d pull sections, %d over rating; highest %.1f %s of %.1f %s rated (%s %s, from %s to %s)\n",
+			s.PullSections, s.PullsOverRating, tn, force, rated, force, t(r.Legs[hi.Leg].Link.ID), t(r.Legs[hi.Leg].Name), t(hi.From), t(hi.To))
+	}
+	b := e.BOM
+	var cats []string
+	for _, x := range b.Subtotal {
+		cats = append(cats, x.Category+" "+media.FormatCents(x.Cents))
+	}
+	fmt.Fprintf(w, "total %s %s: %s, markups %s (%s)\n", media.FormatCents(b.TotalCents), t(b.Currency), strings.Join(cats, ", "),
+		media.FormatCents(b.TotalCents-b.SubtotalCents), t(b.Label))
+	if s.BudgetCents > 0 {
+		word, over := "under", -s.OverBudgetCents
+		if s.OverBudgetCents > 0 {
+			word, over = "over", s.OverBudgetCents
+		}
+		fmt.Fprintf(w, "budget %s %s: %s by %s (%.1f %%)\n", media.FormatCents(s.BudgetCents), t(b.Currency), word, media.FormatCents(over), math.Abs(s.OverBudgetPct))
+	}
+	if s.WarningCount > 0 {
+		fmt.Fprintf(w, "%d warnings (see summary.json)\n", s.WarningCount)
+	}
+	return nil
+}
+
+// ftOrM formats a length for an output edge: metres, or feet when imperial.
+func ftOrM(opt WriteOptions, m float64, decimals int) string {
+	if opt.imperial() {
+		m = install.MToFt(m)
+	}
+	return strconv.FormatFloat(m, 'f', decimals, 64)
+}
+
+// PrintCheck writes a check report as aligned text; lengths in metres, or feet when imperial.
+func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
+	t := escape.Terminal // ids and names from the input, each within a line
+	unit, scale := "m", 1.0
+	if opt.imperial() {
+		unit, scale = "ft", FtPerM
+	}
+	fmt.Fprintf(w, "buildings   %d (mc %d, ic %d, served %d)\n", r.Buildings, r.ByRole["mc"], r.ByRole["ic"], r.ByRole["served"])
+	fmt.Fprintf(w, "structures  %d\n", r.Structures)
+	fmt.Fprintf(w, "junctions   %d\n", r.Junctions)
+	fmt.Fprintf(w, "spans       %d\n", r.Spans)
+	fmt.Fprintf(w, "components  %d (holding buildings)\n", r.Components)
+	fmt.Fprintln(w, "pathways:")
+	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', tabwriter.AlignRight)
+	fmt.Fprintf(tw, "  type\tstatus\tcount\tlength %s\t\n", unit)
+	var total float64
+	for _, p := range r.Pathways {
+		fmt.Fprintf(tw, "  %s\t%s\t%d\t%.1f\t\n", t(p.Type), t(p.Status), p.Pathways, p.LengthM*scale)
+		total += p.LengthM
+	}
+	fmt.Fprintf(tw, "  all\t\t\t%.1f\t\n", total*scale)
+	if err := tw.Flush(); err != nil {
+		return err
+	}
+	switch {
+	case r.Hub == "":
+		fmt.Fprintln(w, "hub         none (no building has role mc and none was named)")
+	case len(r.Unreachable) == 0:
+		fmt.Fprintf(w, "hub         %s: every building can reach it\n", t(r.Hub))
+	default:
+		fmt.Fprintf(w, "hub         %s: %d buildings cannot reach it: %s\n", t(r.Hub), len(r.Unreachable), escape.TerminalList(r.Unreachable))
+	}
+	fmt.Fprintf(w, "warnings    %d\n", len(r.Warnings))
+	for _, m := range r.Warnings {
+		fmt.Fprintf(w, "  warning: %s\n", t(m))
+	}
+	return nil
+}

@@ -1,0 +1,119 @@
+package output
+
+import (
+	"bytes"
+	"context"
+	"encoding/csv"
+	"math"
+	"spanwright/route/internal/testplan"
+	"spanwright/route/internal/testsite"
+	"spanwright/route/plan"
+	"spanwright/route/routing"
+	"strconv"
+	"strings"
+	"testing"
+)
+
+// TestLinksCSVPayloads plans a campus whose building and pathway ids are spreadsheet
+// formulas, markup and hidden characters, then gives a leg a negative loss margin: in
+// links.csv every id cell must be text a spreadsheet cannot run, and every number (the
+// negative margin included) must stay a plain number.
+func TestLinksCSVPayloads(t *testing.T) {
+	t.Parallel()
+	// The pull campus (estimate_test.go) with the ids of its buildings and duct replaced.
+	ids := strings.NewReplacer(`"id":"A"`, `"id":"=A1+1"`, `"id":"B"`, `"id":"-B\u202E"`, `"id":"C"`, `"id":"@C\u001b[2J"`,
+		`"id":"D"`, `"id":"+D"`)
+	r, err := testplan.PullSolveJSON(t, ids.Replace(testsite.PullCampus(100, 1)), func(p *plan.Plan) { p.Hub = "=A1+1" })
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, leg := testplan.LegOf(t, r, "=A1+1--B\u202E")
+	for k := range leg.Losses {
+		leg.Losses[k].MarginDB = -12.5
+	}
+	files, err := Files(context.Background(), r, WriteOptions{SkipWorkbook: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	rows := testplan.ReadCSV(t, testplan.FileOf(t, files, "links.csv"))
+	col := map[string]int{}
+	for i, h := range rows[0] {
+		col[h] = i
+	}
+	var row []string
+	for _, rec := range rows[1:] {
+		if rec[col["to"]] == "'-B<U+202E>" && rec[col["leg"]] == routing.LegPrimary {
+			row = rec
+		}
+	}
+	if row == nil {
+		t.Fatalf("links.csv has no row to '-B<U+202E>:\n%q", rows)
+	}
+	cases := []struct {
+		column, want string
+	}{
+		// OWASP CSV injection guidance: a text cell beginning with = + - @ gets a leading quote
+		{"link", "'=A1+1--B<U+202E>"},
+		{"from", "'=A1+1"},
+		// Unicode TR #9 / CVE-2021-42574 (Trojan Source) for bidi controls
+		{"to", "'-B<U+202E>"},
+		{"pathways", "'+D"},
+		// a plain number is a constant, not a formula: it keeps its sign
+		{"margin_db", "-12.50"},
+	}
+	for _, tc := range cases {
+		t.Run(tc.column, func(t *testing.T) {
+			if got := row[col[tc.column]]; got != tc.want {
+				t.Errorf("%s: got %q, want %q", tc.column, got, tc.want)
+			}
+		})
+	}
+	// ECMA-48: ESC [ begins a terminal control sequence
+	found := false
+	for _, rec := range rows[1:] {
+		found = found || rec[col["to"]] == "'@C<U+001B>[2J"
+	}
+	if !found {
+		t.Errorf("links.csv has no row to '@C<U+001B>[2J")
+	}
+	for _, rec := range rows {
+		for _, cell := range rec {
+			if strings.ContainsAny(cell, "\u202E\x1b") {
+				t.Errorf("links.csv cell %q holds a raw hidden character", cell)
+			}
+		}
+	}
+}
+
+// TestImperialBOMMultipliesOut: in bom.csv with --units imperial, every line's quantity in
+// feet times its unit price per foot is its extended price to the cent (an estimator checks
+// a bill this way; with the price per foot rounded to four decimals a 17,185 ft line missed
+// by 0.86).
+func TestImperialBOMMultipliesOut(t *testing.T) {
+	t.Parallel()
+	r := testplan.DemoResult(t)
+	data, err := bomCSV(r, WriteOptions{Units: UnitsImperial})
+	if err != nil {
+		t.Fatal(err)
+	}
+	rows, err := csv.NewReader(bytes.NewReader(data)).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	n := 0
+	for _, row := range rows[1:] {
+		if row[2] != "ft" {
+			continue
+		}
+		n++
+		q, _ := strconv.ParseFloat(row[3], 64)
+		p, _ := strconv.ParseFloat(row[4], 64)
+		x, _ := strconv.ParseFloat(row[5], 64)
+		if math.Abs(q*p-x) > 0.005 {
+			t.Errorf("%s: %s ft × %s = %.4f, extended %s", row[1], row[3], row[4], q*p, row[5])
+		}
+	}
+	if n == 0 {
+		t.Fatal("no line in feet")
+	}
+}

@@ -1,0 +1,386 @@
+package plan
+
+import (
+	"errors"
+	"fmt"
+	"path/filepath"
+	"slices"
+	"strings"
+
+	"go.yaml.in/yaml/v3"
+
+	"spanwright/geo/input"
+)
+
+// Redundancy values of a link.
+const (
+	RedundancyNone    = "none"
+	RedundancyDiverse = "diverse"
+)
+
+// Objective values of design.objective.
+const (
+	ObjectiveCost   = "cost"
+	ObjectiveLength = "length"
+)
+
+// Plan is a parsed plan file. Paths in it are resolved against the plan file's folder.
+type Plan struct {
+	File     string     `yaml:"-"` // the plan file's path, for messages
+	Dir      string     `yaml:"-"` // the folder paths are relative to
+	Name     string     `yaml:"name"`
+	Campus   FileList   `yaml:"campus"`
+	Hub      string     `yaml:"hub"`
+	Budget   Money      `yaml:"budget"`
+	Defaults Defaults   `yaml:"defaults"`
+	Links    []LinkSpec `yaml:"links"`
+	Design   Design     `yaml:"design"`
+	Catalog  string     `yaml:"catalog"` // optional media catalog file
+	Rules    string     `yaml:"rules"`   // optional rule file
+	Prices   string     `yaml:"prices"`  // optional price book file
+
+	// MaxInputBytes caps each file the plan reads (campus, catalog, rules, prices), in
+	// bytes; 0 for the defaults (input.DefaultDataMiB MiB for GeoJSON, input.DefaultTextMiB
+	// for YAML). It is not read from the file: the command line sets it.
+	MaxInputBytes int64 `yaml:"-"`
+
+	at map[string]input.Pos // position of each key and list element given, by key path ("design.slack_m", "links[2]")
+}
+
+// FileList is one file name or a list of them.
+type FileList []string
+
+// UnmarshalYAML reads a file name or a list of file names.
+func (f *FileList) UnmarshalYAML(n *yaml.Node) error {
+	bad := input.Errorf(input.ErrWrongType, "want a file name or a list of file names, got %s", input.KindName(n))
+	switch n.Kind {
+	case yaml.ScalarNode:
+		if n.Tag != "!!str" {
+			return bad
+		}
+		*f = FileList{n.Value}
+		return nil
+	case yaml.SequenceNode:
+		var out FileList
+		for _, it := range n.Content {
+			it = input.Resolve(it)
+			if it.Kind != yaml.ScalarNode || it.Tag != "!!str" {
+				return bad
+			}
+			out = append(out, it.Value)
+		}
+		*f = out
+		return nil
+	}
+	return bad
+}
+
+// Defaults apply to every link that does not say otherwise.
+type Defaults struct {
+	Rate       string  `yaml:"rate"`        // e.g. "10G"
+	FutureRate string  `yaml:"future_rate"` // "" when none
+	Strands    int     `yaml:"strands"`     // strands required before growth
+	Growth     float64 `yaml:"growth"`      // growth fraction, 0.5 = 50 %
+	Redundancy string  `yaml:"redundancy"`  // RedundancyNone or RedundancyDiverse
+}
+
+// LinkSpec is one entry of the plan's links list. Empty fields take the defaults; From empty
+// means the building's nearest cross-connect (the hub for an ic).
+type LinkSpec struct {
+	Line       int      `yaml:"-"` // line of the entry in the plan file
+	From       string   `yaml:"from"`
+	To         string   `yaml:"to"`
+	Rate       string   `yaml:"rate"`
+	FutureRate string   `yaml:"future_rate"`
+	Strands    int      `yaml:"strands"`
+	Growth     *float64 `yaml:"growth"`
+	Redundancy string   `yaml:"redundancy"`
+	Skip       bool     `yaml:"skip"`
+}
+
+// Design holds the plan's design switches; lengths are metres, losses dB.
+type Design struct {
+	LossMarginDB       float64 `yaml:"loss_margin_db"`
+	AllowNewTrench     bool    `yaml:"allow_new_trench"`
+	AllowOutdoorCopper bool    `yaml:"allow_outdoor_copper"`
+	MaxLateralM        float64 `yaml:"max_lateral_m"`
+	SnapM              float64 `yaml:"snap_m"`
+	SlackM             float64 `yaml:"slack_m"`        // slack per link end, in metres
+	PairLossDB         float64 `yaml:"pair_loss_db"`   // design loss per mated connector pair; 0 = catalog (TIA-568.3-D 0.75 dB)
+	SpliceLossDB       float64 `yaml:"splice_loss_db"` // design loss per splice; 0 = catalog (TIA-568.3-D 0.3 dB)
+	Objective          string  `yaml:"objective"`
+
+	// Installation: what the cable takeoff and the pulling plan assume.
+	WastePct            float64 `yaml:"waste_pct"`              // cable bought beyond the measured length, in percent
+	SlackLoopEntranceM  float64 `yaml:"slack_loop_entrance_m"`  // slack loop at each building entrance, in metres
+	SlackLoopStructureM float64 `yaml:"slack_loop_structure_m"` // slack loop at each maintenance hole or handhole passed, in metres
+	ReelM               float64 `yaml:"reel_m"`                 // longest cable on one reel, in metres; longer runs get mid-span splices
+	PullMu              float64 `yaml:"pull_mu"`                // coefficient of friction between cable and duct
+	PullBendDeg         float64 `yaml:"pull_bend_deg"`          // most bend degrees between pull points
+	PullMaxM            float64 `yaml:"pull_max_m"`             // most metres between pull points; 0 for no limit
+	PullMaxSWBPNPerM    float64 `yaml:"pull_max_swbp_n_per_m"`  // most sidewall bearing pressure at a bend, N/m; 0: not checked
+
+	// Innerduct: when InnerductODMM > 0, every cable laid in a duct goes into an innerduct of
+	// its own, of this outside and inside diameter in millimetres. Duct fill then counts the
+	// innerducts, a cable must fit its innerduct, and the bill adds the innerduct and placing it.
+	InnerductODMM float64 `yaml:"innerduct_od_mm"`
+	InnerductIDMM float64 `yaml:"innerduct_id_mm"`
+}
+
+// Innerduct reports whether the design places innerduct in ducts.
+func (d Design) Innerduct() bool { return d.InnerductODMM > 0 }
+
+// Money is an amount in integer cents, read from a YAML number such as 1250000 or 1250000.50.
+type Money int64
+
+// UnmarshalYAML reads a decimal amount without going through a float.
+func (m *Money) UnmarshalYAML(n *yaml.Node) error {
+	if n.Kind != yaml.ScalarNode || n.Tag == "!!null" {
+		return input.Errorf(input.ErrWrongType, "want an amount such as 1250000 or 99.95, got %s", input.KindName(n))
+	}
+	c, err := ParseCents(n.Value)
+	if err != nil {
+		return input.Errorf(input.ErrBadValue, "%v", err)
+	}
+	*m = Money(c)
+	return nil
+}
+
+// ParseCents reads a non-negative decimal amount with at most two decimals into cents.
+func ParseCents(s string) (int64, error) {
+	s = strings.TrimSpace(strings.ReplaceAll(s, "_", ""))
+	whole, frac, hasFrac := strings.Cut(s, ".")
+	if whole == "" || (hasFrac && (len(frac) == 0 || len(frac) > 2)) {
+		return 0, fmt.Errorf("want an amount such as 1250000 or 99.95, got %q", s)
+	}
+	for len(frac) < 2 {
+		frac += "0"
+	}
+	var c int64
+	for _, r := range whole + frac {
+		if r < '0' || r > '9' {
+			return 0, fmt.Errorf("want an amount such as 1250000 or 99.95, got %q", s)
+		}
+		c = c*10 + int64(r-'0')
+		if c > 1e17 {
+			return 0, fmt.Errorf("amount %q is too large", s)
+		}
+	}
+	return c, nil
+}
+
+// Default are the values a plan gets for what it leaves out.
+var Default = Plan{
+	Defaults: Defaults{Rate: "10G", Strands: 12, Growth: 0.5, Redundancy: RedundancyNone},
+	Design: Design{
+		LossMarginDB:   1.0,
+		AllowNewTrench: true,
+		MaxLateralM:    30,
+		SnapM:          0.5,
+		SlackM:         5,
+		Objective:      ObjectiveCost,
+		// Common practice, no published source: 5 % waste, 3 m loops at entrances and at
+		// maintenance holes and handholes, 4 km reels of outside-plant fibre.
+		WastePct:            5,
+		SlackLoopEntranceM:  3,
+		SlackLoopStructureM: 3,
+		ReelM:               4000,
+		// μ 0.5 is the usual default when the duct and lubricant are unknown (cable pulling
+		// statics, see REFERENCES); TIA-569 allows at most 180° of bends between pull points.
+		// TIA-569's 30 m between pull points applies to conduit in buildings, so campus duct
+		// gets no length limit unless the plan sets one.
+		PullMu:      0.5,
+		PullBendDeg: 180,
+	},
+}
+
+// ErrPlan matches, through errors.Is, every problem of a plan file: each is an
+// *input.Problem whose Class is ErrPlan.
+var ErrPlan = errors.New("invalid plan")
+
+// Problem returns a problem of the plan file at key, a key path ("design.slack_m",
+// "links[2].to"): at the key's line and column, or for a key the file leaves out at its
+// section's, or nowhere when the file has neither.
+func (p *Plan) Problem(key string, err error) *input.Problem {
+	pos, path := input.Pos{}, key
+	for path != "" {
+		if at, ok := p.at[path]; ok {
+			pos = at
+			break
+		}
+		i := strings.LastIndexAny(path, ".[")
+		if i < 0 {
+			break
+		}
+		path = path[:i]
+	}
+	return input.Place(input.Problem{File: p.File, Line: pos.Line, Col: pos.Col, Key: key, Class: ErrPlan}, err)
+}
+
+// LoadPlan reads and validates a plan file, a regular file of at most input.DefaultTextMiB
+// MiB.
+func LoadPlan(path string) (*Plan, error) { return LoadPlanLimit(path, 0) }
+
+// LoadPlanLimit is LoadPlan with a cap of maxBytes bytes on the plan file, kept in
+// Plan.MaxInputBytes for the files the plan names (0: the defaults).
+func LoadPlanLimit(path string, maxBytes int64) (*Plan, error) {
+	data, err := input.ReadFile(path, input.Cap(maxBytes, input.DefaultTextMiB))
+	if err != nil {
+		return nil, &input.Problem{File: path, Err: fmt.Errorf("read: %w", input.Cause(err)), Class: ErrPlan}
+	}
+	p, err := ParsePlan(path, data)
+	if err != nil {
+		return nil, err
+	}
+	p.MaxInputBytes = maxBytes
+	return p, nil
+}
+
+// ParsePlan reads a plan from data; name is the plan file's path, used for messages and to
+// resolve the relative paths in it. Every problem of the file comes back at once, as an
+// *input.Problems in line order.
+func ParsePlan(name string, data []byte) (*Plan, error) {
+	p := Default
+	p.File = name
+	p.Dir = filepath.Dir(name)
+	p.at = map[string]input.Pos{}
+	var errs input.Problems
+	d := &input.Decoder{File: name, Problems: &errs, Class: ErrPlan, Where: p.at, RangeOf: SettingRange}
+	if root := d.Parse(data, &p); root != nil && input.Resolve(root).Kind == yaml.MappingNode {
+		for i := range p.Links {
+			p.Links[i].Line = p.at[fmt.Sprintf("links[%d]", i)].Line
+		}
+		p.validate(&errs)
+	}
+	errs.Sort()
+	if err := errs.Err(); err != nil {
+		return nil, err
+	}
+	return &p, nil
+}
+
+// validate adds to errs the problems the walker cannot see: values outside a list of
+// choices, keys that must go together. Numbers are in range: the walker checked them
+// (SettingRange) and left the default where one was not.
+func (p *Plan) validate(errs *input.Problems) {
+	bad := func(key string, kind error, format string, args ...any) {
+		errs.Add(p.Problem(key, input.Errorf(kind, format, args...)))
+	}
+	reported := func(keys ...string) bool {
+		for _, e := range errs.List {
+			if slices.Contains(keys, e.Key) {
+				return true
+			}
+		}
+		return false
+	}
+	if len(p.Campus) == 0 && !reported("campus") {
+		if _, given := p.at["campus"]; given {
+			bad("campus", input.ErrBadValue, "want at least one campus GeoJSON file, got none")
+		} else {
+			bad("campus", input.ErrMissingKey, "missing; name at least one campus GeoJSON file")
+		}
+	}
+	d := p.Defaults
+	if d.Redundancy != RedundancyNone && d.Redundancy != RedundancyDiverse {
+		bad("defaults.redundancy", input.ErrBadValue, "want %q or %q, got %q", RedundancyNone, RedundancyDiverse, d.Redundancy)
+	}
+	for i, l := range p.Links {
+		key := fmt.Sprintf("links[%d].", i)
+		if l.To == "" && !reported(key+"to") {
+			bad(key+"to", input.ErrMissingKey, "missing; a link names the building it serves")
+		}
+		if l.Redundancy != "" && l.Redundancy != RedundancyNone && l.Redundancy != RedundancyDiverse {
+			bad(key+"redundancy", input.ErrBadValue, "want %q or %q, got %q", RedundancyNone, RedundancyDiverse, l.Redundancy)
+		}
+	}
+	g := p.Design
+	if g.Objective != ObjectiveCost && g.Objective != ObjectiveLength {
+		bad("design.objective", input.ErrBadValue, "want %q or %q, got %q", ObjectiveCost, ObjectiveLength, g.Objective)
+	}
+	switch {
+	case reported("design.innerduct_od_mm", "design.innerduct_id_mm"):
+	case g.InnerductODMM == 0 && g.InnerductIDMM != 0:
+		bad("design.innerduct_id_mm", input.ErrBadValue, "want it only with design.innerduct_od_mm, got %g without", g.InnerductIDMM)
+	case g.InnerductODMM > 0 && !(g.InnerductIDMM > 0 && g.InnerductIDMM < g.InnerductODMM):
+		bad("design.innerduct_id_mm", input.ErrBadValue, "want millimetres above 0 and below innerduct_od_mm (%g), got %g", g.InnerductODMM, g.InnerductIDMM)
+	}
+}
+
+// MaxStrands is the most strands a link may ask for: the largest cables hold a few thousand
+// fibres.
+const MaxStrands = 10000
+
+var (
+	growthRange      = input.Range{Min: 0, Max: 10, Unit: "a fraction"}
+	linkStrandsRange = input.Range{Min: 0, Max: MaxStrands, Whole: true, Unit: "strands"}
+)
+
+// planNumber is a numeric key of the plan's defaults or design sections and its range.
+type planNumber struct {
+	key string
+	r   input.Range
+}
+
+// planNumbers are the ranges of the numeric keys of the defaults and design sections, in
+// file order; a sweep file's values for them are checked against the same ranges
+// (SettingRange). The ends are generous: they catch NaN, infinities, overflowing integers and
+// slips of unit, not unusual designs.
+var planNumbers = []planNumber{
+	{key: "defaults.strands", r: input.Range{Min: 1, Max: MaxStrands, Whole: true, Unit: "strands"}},
+	{key: "defaults.growth", r: growthRange},
+	{key: "design.loss_margin_db", r: input.Range{Min: 0, Max: 50, Unit: "dB"}},
+	{key: "design.max_lateral_m", r: input.Range{Min: 0, AboveMin: true, Max: 1000, Unit: "metres"}},
+	{key: "design.snap_m", r: input.Range{Min: 0, AboveMin: true, Max: 100, Unit: "metres"}},
+	{key: "design.slack_m", r: input.Range{Min: 0, Max: 1000, Unit: "metres"}},
+	{key: "design.pair_loss_db", r: input.Range{Min: 0, Max: 10, Unit: "dB"}},
+	{key: "design.splice_loss_db", r: input.Range{Min: 0, Max: 10, Unit: "dB"}},
+	{key: "design.waste_pct", r: input.Range{Min: 0, Max: 100, Unit: "a percentage"}},
+	{key: "design.slack_loop_entrance_m", r: input.Range{Min: 0, Max: 1000, Unit: "metres"}},
+	{key: "design.slack_loop_structure_m", r: input.Range{Min: 0, Max: 1000, Unit: "metres"}},
+	// A copper channel cannot be spliced, so a reel holds one at least.
+	{key: "design.reel_m", r: input.Range{Min: MaxCopperChannelM, Max: 100000, Unit: "metres"}},
+	{key: "design.pull_mu", r: input.Range{Min: 0, Max: 2, Unit: "a coefficient of friction"}},
+	// NFPA 70 allows 360° of bends per raceway run.
+	{key: "design.pull_bend_deg", r: input.Range{Min: 0, AboveMin: true, Max: 360, Unit: "degrees"}},
+	{key: "design.pull_max_m", r: input.Range{Min: 0, Max: 100000, Unit: "metres"}},
+	{key: "design.pull_max_swbp_n_per_m", r: input.Range{Min: 0, Max: 100000, Unit: "N/m"}},
+	{key: "design.innerduct_od_mm", r: input.Range{Min: 0, Max: 1000, Unit: "millimetres"}},
+	{key: "design.innerduct_id_mm", r: input.Range{Min: 0, Max: 1000, Unit: "millimetres"}},
+}
+
+// SettingRange returns the range of a numeric plan setting by dotted key
+// ("design.slack_m", "links.growth" for every link's), and false for a key that is not
+// numeric.
+func SettingRange(key string) (input.Range, bool) {
+	switch key {
+	case "links.strands":
+		return linkStrandsRange, true
+	case "links.growth":
+		return growthRange, true
+	}
+	for _, k := range planNumbers {
+		if k.key == key {
+			return k.r, true
+		}
+	}
+	return input.Range{}, false
+}
+
+// Path resolves a path named in the plan against the plan file's folder.
+func (p *Plan) Path(name string) string {
+	if name == "" || filepath.IsAbs(name) {
+		return name
+	}
+	return filepath.Join(p.Dir, name)
+}
+
+// problems is errs as one *input.Problems, in file and line order.
+func problems(errs []error) error {
+	var l input.Problems
+	for _, e := range errs {
+		l.Add(e)
+	}
+	l.Sort()
+	return l.Err()
+}

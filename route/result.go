@@ -1,0 +1,142 @@
+package route
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"spanwright/geo"
+	"spanwright/geo/input"
+	"spanwright/media"
+	"spanwright/route/estimate"
+	"spanwright/route/plan"
+	"spanwright/route/routing"
+	"spanwright/route/site"
+)
+
+// Result is a planned scenario: its links, their legs, and what was noticed on the way.
+type Result struct {
+	Plan     *plan.Plan
+	Site     *site.Site
+	Hub      string
+	Links    []site.Link
+	Legs     []routing.Leg // the legs of every link in link order; each points into Links
+	Warnings []string
+
+	Currency string // the price book's ISO currency code
+	// ExtraCents is plan-level cost not carried by any leg (for example markups); the
+	// plan's total is the legs' totals plus ExtraCents.
+	ExtraCents int64
+
+	Engine *media.Engine         // the engine that chose the media
+	Opened []string              // proposed spans the plan builds, by span ID
+	Fill   []routing.SegmentFill // duct fill of every span that carries cable, by span ID
+	// ObjectiveCents is the optimizer's objective for the routes it returned
+	// (optimize.Solution.TotalCents): see the README's "One cost model".
+	ObjectiveCents int64
+
+	// Estimate is the installation takeoff and priced bill of materials (see Estimate).
+	Estimate *estimate.Estimate
+}
+
+// ErrInfeasible is returned, wrapped in an *InfeasibleError, when a plan finished but some
+// links could not be served.
+var ErrInfeasible = errors.New("some links are infeasible")
+
+// InfeasibleError lists the legs a finished plan could not serve.
+type InfeasibleError struct{ Legs []string }
+
+func (e *InfeasibleError) Error() string {
+	return fmt.Sprintf("%d infeasible link legs: %v", len(e.Legs), e.Legs)
+}
+
+func (e *InfeasibleError) Unwrap() error { return ErrInfeasible }
+
+// Infeasible returns an *InfeasibleError naming every infeasible leg, or nil.
+func (r *Result) Infeasible() error {
+	var names []string
+	for _, l := range r.Legs {
+		if !l.Feasible {
+			names = append(names, l.Link.ID+"/"+l.Name+": "+l.Reason)
+		}
+	}
+	if len(names) == 0 {
+		return nil
+	}
+	return &InfeasibleError{Legs: names}
+}
+
+// Solve plans p on the site with the plan's own engine (see plan.Engine).
+func Solve(ctx context.Context, s *site.Site, p *plan.Plan) (*Result, error) {
+	eng, err := plan.Engine(p)
+	if err != nil {
+		return nil, err
+	}
+	return SolveWith(ctx, s, p, eng)
+}
+
+// SolveWith plans p on the site: resolves the hub and links, checks that every building
+// served can reach the hub, routes every leg and chooses its medium (package routing), and
+// estimates and prices the installation (package estimate). Input problems come back together
+// as one error; infeasible legs do not stop the plan (see Result.Infeasible). When ctx is
+// done, the optimizer, the media choice and the estimate stop within a step and SolveWith
+// returns ctx's error and no result.
+func SolveWith(ctx context.Context, s *site.Site, p *plan.Plan, eng *media.Engine) (*Result, error) {
+	hub, err := s.Hub(p)
+	if err != nil {
+		return nil, err
+	}
+	links, errs := s.Links(p, hub)
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	errs = append(errs, p.CheckRates(eng.Catalog())...)
+	if un := s.UnreachableServed(hub, links); len(un) > 0 {
+		errs = append(errs, p.Problem("hub", input.Errorf(geo.ErrUnreachable, "%d buildings cannot reach the hub %q through the pathway network: %q", len(un), hub, un)))
+	}
+	model, err := routing.NewModel(eng, p.Design)
+	if err != nil {
+		errs = append(errs, err)
+	}
+	if len(errs) > 0 {
+		var l input.Problems
+		for _, e := range errs {
+			l.Add(e)
+		}
+		l.Sort()
+		return nil, l.Err()
+	}
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	rt, err := routing.Solve(ctx, s, model, links)
+	if err != nil {
+		return nil, err
+	}
+	r := &Result{Plan: p, Site: s, Hub: hub, Links: links, Legs: rt.Legs, Currency: eng.PriceBook().Currency, Engine: eng,
+		Opened: rt.Opened, Fill: rt.Fill, ObjectiveCents: rt.ObjectiveCents}
+	for _, w := range s.Net.Warnings {
+		r.Warnings = append(r.Warnings, w.File+": "+w.Feature+": "+w.Message)
+	}
+	e, err := estimate.Build(ctx, estimate.Input{Site: s, Plan: p, Engine: eng, Legs: r.Legs, Fill: r.Fill, Opened: r.Opened})
+	if err != nil {
+		return nil, err
+	}
+	r.Estimate = e
+	r.Warnings = append(r.Warnings, e.Warnings...)
+	if e.BudgetWarning != "" {
+		r.Warnings = append(r.Warnings, e.BudgetWarning)
+	}
+	return r, nil
+}
+
+// Inputs lists the files the plan read, which outputs must never overwrite.
+func (r *Result) Inputs() []string {
+	in := []string{r.Plan.File}
+	in = append(in, r.Site.Campus.Files...)
+	for _, f := range []string{r.Plan.Catalog, r.Plan.Rules, r.Plan.Prices} {
+		if f != "" {
+			in = append(in, r.Plan.Path(f))
+		}
+	}
+	return in
+}

@@ -1,0 +1,394 @@
+package routing
+
+import (
+	"cmp"
+	"fmt"
+	"math"
+	"slices"
+	"sort"
+	"strings"
+
+	"spanwright/geo"
+	"spanwright/media"
+	"spanwright/route/items"
+	"spanwright/route/optimize"
+	"spanwright/route/plan"
+	"spanwright/route/site"
+)
+
+// StandardStrandCounts are the fibre counts a required strand count rounds up to
+// (common practice, no published source).
+var StandardStrandCounts = []int{12, 24, 48, 72, 96, 144, 288}
+
+// CableStrands rounds required × (1 + growth) up to a standard cable count; beyond the
+// largest it rounds up to a multiple of the largest.
+func CableStrands(required int, growth float64) int {
+	n := int(math.Ceil(float64(required)*(1+growth) - 1e-9))
+	for _, c := range StandardStrandCounts {
+		if n <= c {
+			return c
+		}
+	}
+	big := StandardStrandCounts[len(StandardStrandCounts)-1]
+	return (n + big - 1) / big * big
+}
+
+// ConnectorPairs is the number of mated connector pairs in a backbone channel: one patch
+// panel at each end (ANSI/TIA-568.3-D channel model).
+const ConnectorPairs = 2
+
+// Model prices a plan's pathways and media from the engine and its price book, with the
+// item functions of package items, which the bill of materials (package estimate) calls too.
+type Model struct {
+	eng         *media.Engine
+	prices      *media.PriceBook
+	design      plan.Design
+	allowedMemo map[allowedKey]bool
+	cableMemo   map[cableKey]int64
+	// classes are the span classes of the campus in a fixed order, and classBit each one's flag.
+	classes  []spanClass
+	classBit map[spanClass]uint64
+}
+
+// Edge flags. flagDuct marks a duct edge, so that a cable too large for the design's
+// innerduct can be kept off ducts. Every other flag is a span class (spanClass): the bit
+// firstClassFlag << k marks the edges of the k-th class in the campus, and an option
+// excludes the classes on which the rule engine does not let its medium run.
+const (
+	flagDuct       = optimize.FlagOutdoor << 1
+	firstClassFlag = flagDuct << 1
+)
+
+// spanClass is what a span tells the rule engine about a route that runs on it: its EMI
+// level, whether it is outdoors (every pathway but a tray), whether it is in a plenum, and its
+// pathway type. Which media may run on a span is the rule engine's answer for a route with
+// these facts (allowed), so a rule added to or removed from a rules file changes where the
+// optimizer may route a medium; no medium rule is written in Go.
+type spanClass struct {
+	emi             string
+	outdoor, plenum bool
+	typ             string
+}
+
+func classOf(sp *geo.Span) spanClass {
+	emi := sp.EMI
+	if emi == "" {
+		emi = geo.EMINone
+	}
+	return spanClass{emi: emi, outdoor: sp.Type != geo.TypeTray, plenum: sp.Plenum, typ: sp.Type}
+}
+
+// lateralClass is a counted lateral: a buried run out of the building with no EMI data.
+var lateralClass = spanClass{emi: geo.EMINone, outdoor: true, typ: geo.TypeBuried}
+
+func (c spanClass) facts(l media.Link) media.Link {
+	l.MaxEMI, l.Outdoor, l.Plenum, l.PathwayTypes = c.emi, c.outdoor, c.plenum, []string{c.typ}
+	return l
+}
+
+func (c spanClass) String() string {
+	s := c.typ
+	if c.emi != geo.EMINone {
+		s += ", " + c.emi + " EMI"
+	}
+	if c.plenum {
+		s += ", plenum"
+	}
+	return s
+}
+
+// allowedKey is what allowed's answer depends on.
+type allowedKey struct {
+	medium       string
+	rate, future float64
+	strands      int
+	class        spanClass
+}
+
+// allowed reports whether the rules let medium carry a link of rate (and future rate) and
+// strands on spans of class c, at some length, with no risers or slack: the rules that depend
+// on the whole route or its ends are the media choice's to apply, on the route's own facts.
+func (m *Model) allowed(medium string, rate, future float64, strands int, c spanClass) bool {
+	k := allowedKey{medium, rate, future, strands, c}
+	if v, ok := m.allowedMemo[k]; ok {
+		return v
+	}
+	l := c.facts(media.Link{ConnectorPairs: ConnectorPairs, Strands: strands})
+	v := m.eng.MaxChannelM(medium, rate, future, l) > 0
+	m.allowedMemo[k] = v
+	return v
+}
+
+// explain puts the optimizer's account of an unroutable demand in the plan's words: options
+// by their medium, excluded edge flags as the span classes the rules keep the medium off.
+func (m *Model) explain(in optimize.Infeasible) string {
+	if len(in.Options) == 0 {
+		return in.Reason
+	}
+	msgs := make([]string, len(in.Options))
+	for i, f := range in.Options {
+		switch f.Kind {
+		case optimize.FailNoPath:
+			msgs[i] = f.Name + ": no pathway joins its two ends"
+		case optimize.FailNoPathFlags:
+			var off []string
+			if f.ExcludeFlags&flagDuct != 0 {
+				off = append(off, "ducts (the cable does not fit the innerduct)")
+			}
+			for _, c := range m.classes {
+				if f.ExcludeFlags&m.classBit[c] != 0 {
+					off = append(off, c.String())
+				}
+			}
+			msgs[i] = f.Name + ": no pathway joins its two ends on the spans its rules allow (it may not run on: " + strings.Join(off, "; ") + ")"
+		case optimize.FailReach:
+			msgs[i] = fmt.Sprintf("%s: the shortest route it may use is %.1f m along pathways, beyond the %.1f m it reaches there", f.Name, f.ShortestM, f.ReachM)
+		default:
+			msgs[i] = f.Name + ": every route within reach crosses ducts too full for the cable"
+		}
+	}
+	return strings.Join(msgs, "; ")
+}
+
+// whyNot is the rule engine's reason for keeping medium off spans of class c.
+func (m *Model) whyNot(medium string, facts media.Link, c spanClass) string {
+	l := c.facts(facts)
+	l.RouteM = 1
+	for _, r := range m.eng.Choose(l).Rejected {
+		if r.Medium == medium {
+			return r.Reason
+		}
+	}
+	return medium + " is not allowed there"
+}
+
+// NewModel checks that the price book has every price the route-dependent items of the
+// plan need; a missing one is an error naming its key.
+func NewModel(eng *media.Engine, d plan.Design) (*Model, error) {
+	p := eng.PriceBook()
+	m := &Model{eng: eng, prices: p, design: d, allowedMemo: map[allowedKey]bool{}, cableMemo: map[cableKey]int64{}}
+	var needs []media.PriceKey
+	for _, t := range items.PathwayTypes {
+		needs = append(needs, items.KeysOf(items.AlongSpan(d, t, 1))...)
+	}
+	if err := p.Check(needs); err != nil {
+		return nil, err
+	}
+	return m, nil
+}
+
+// problem builds the optimizer's problem: one edge per span (same index), one demand per link.
+func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, []demandInfo, error) {
+	net := s.Net
+	groups := map[string]int{}
+	var names []string
+	for _, sp := range net.Spans {
+		if _, ok := groups[sp.Group]; !ok && sp.Group != "" {
+			groups[sp.Group] = 0
+			names = append(names, sp.Group)
+		}
+	}
+	sort.Strings(names)
+	for i, n := range names {
+		groups[n] = i + 1
+	}
+	m.classes, m.classBit = nil, map[spanClass]uint64{}
+	for i := range net.Spans {
+		if c := classOf(&net.Spans[i]); m.classBit[c] == 0 {
+			m.classBit[c] = 1 // numbered below, in a fixed order
+			m.classes = append(m.classes, c)
+		}
+	}
+	slices.SortFunc(m.classes, func(a, b spanClass) int {
+		return cmp.Or(strings.Compare(a.typ, b.typ), strings.Compare(a.emi, b.emi), boolCmp(a.outdoor, b.outdoor), boolCmp(a.plenum, b.plenum))
+	})
+	if len(m.classes) > 62 {
+		// 5 pathway types × 3 EMI levels × outdoors or not × plenum or not is 60 at most.
+		panic(fmt.Sprintf("route: %d span classes do not fit the optimizer's edge flags", len(m.classes)))
+	}
+	for k, c := range m.classes {
+		// At most 5 pathway types × 3 EMI levels × plenum or not: 30 classes, well within
+		// the flags above firstClassFlag.
+		m.classBit[c] = firstClassFlag << k
+	}
+	p := &optimize.Problem{Nodes: len(net.Junctions), AllowNew: m.design.AllowNewTrench,
+		Edges: make([]optimize.Edge, len(net.Spans))}
+	d := m.design
+	// Duct fill: the optimizer's incremental NFPA 70 Chapter 9 Table 1 packing (nil Fits).
+	for i := range net.Spans {
+		sp := &net.Spans[i]
+		u, _ := s.Graph.NodeOf(sp.From)
+		v, _ := s.Graph.NodeOf(sp.To)
+		// Half the slack loop at each end's structure: a route passing a structure crosses two
+		// of its spans; the halves at a route's two ends are its demand's (demand).
+		loops := (items.LoopM(s, d, sp.From) + items.LoopM(s, d, sp.To)) / 2
+		e := optimize.Edge{ID: sp.ID, From: int(u), To: int(v), LengthM: sp.LengthM, CableM: items.Wasted(d, sp.LengthM+loops),
+			PerCableCents: m.cents(items.AlongSpan(d, sp.Type, sp.LengthM)...) + m.cents(items.StructureLoops(loops)...),
+			Group:         groups[sp.Group], Flags: m.classBit[classOf(sp)]}
+		if sp.Type == geo.TypeDuct {
+			e.Flags |= flagDuct
+		}
+		if sp.Status == geo.StatusProposed {
+			open := items.Opening(s, sp)
+			if err := m.prices.Check(items.KeysOf(open)); err != nil {
+				return nil, nil, err
+			}
+			e.Proposed, e.FixedCents = true, m.cents(open...)
+		} else if sp.Type == geo.TypeDuct {
+			e.Ducts, e.DuctIDMM = sp.SpareDucts, sp.DuctMM
+			// One trench or bore beside the span however many ducts it gets, and the ducts.
+			work := items.NewWork(sp, 1)
+			if m.prices.Check(items.KeysOf(append(work, items.AddedDuct(1)))) == nil && m.perM(items.AddedDuct(1)) > 0 {
+				e.AddDuctPerMCents, e.AddTrenchPerMCents = m.perM(items.AddedDuct(1)), m.perM(work...)
+			}
+		}
+		p.Edges[i] = e
+	}
+	infos := make([]demandInfo, len(links))
+	for i := range links {
+		d, info := demand(s, m, &links[i])
+		p.Demands = append(p.Demands, d)
+		infos[i] = info
+	}
+	return p, infos, nil
+}
+
+// demandInfo is what the pipeline keeps about a link's demand to cost and explain its legs.
+type demandInfo struct {
+	facts    media.Link // route-independent facts; RouteM and the route facts are filled per leg
+	rate     float64
+	strands  int // cable strands after growth and rounding
+	options  []string
+	excluded []string // media left out before routing, with why
+}
+
+// demand turns a link into the optimizer's demand with one option per medium that can carry it.
+func demand(s *site.Site, m *Model, l *site.Link) (optimize.Demand, demandInfo) {
+	src, dst := s.Access(l.To), s.Access(l.From)
+	srcN, _ := s.Graph.NodeOf(src.Junction)
+	dstN, _ := s.Graph.NodeOf(dst.Junction)
+	rate, _ := m.eng.Catalog().ParseRate(l.Rate)
+	future := 0.0
+	if l.FutureRate != "" {
+		future, _ = m.eng.Catalog().ParseRate(l.FutureRate)
+	}
+	strands := CableStrands(l.Strands, l.Growth)
+	riser := s.RiserM(l.To) + s.RiserM(l.From)
+	lateral := src.LateralM + dst.LateralM
+	d := m.design
+	slack := 2 * d.SlackM
+	coils := slack + 2*d.SlackLoopEntranceM
+	endLoops := (items.LoopM(s, d, src.Junction) + items.LoopM(s, d, dst.Junction)) / 2
+	ends := riser + lateral + coils + endLoops
+	endItems := append(items.LegEnds(riser, coils, lateral), items.StructureLoops(endLoops)...)
+	facts := media.Link{ID: l.ID, RiserM: riser, SlackM: slack, RateGbps: rate, FutureRateGbps: future,
+		MaxEMI: geo.EMINone, ConnectorPairs: ConnectorPairs, Strands: strands}
+	info := demandInfo{facts: facts, rate: rate, strands: strands}
+	dm := optimize.Demand{ID: l.ID, Source: int(srcN), Target: int(dstN), Diverse: l.Diverse}
+	for _, med := range m.eng.Media() {
+		mm := m.eng.Catalog().Medium(med)
+		if lateral > 0 && !m.allowed(med, rate, future, strands, lateralClass) {
+			info.excluded = append(info.excluded, fmt.Sprintf("%s: the route leaves a building over a lateral: %s", med, m.whyNot(med, facts, lateralClass)))
+			continue
+		}
+		var exclude uint64
+		for _, c := range m.classes {
+			if !m.allowed(med, rate, future, strands, c) {
+				exclude |= m.classBit[c]
+			}
+		}
+		maxCh := m.eng.MaxChannelM(med, rate, future, facts)
+		maxRoute := maxCh - riser - slack - lateral
+		perM := m.cableFor(med, rate, facts, coils+2*endLoops)
+		fixed := m.eng.FixedCents(med, rate, strands)
+		switch {
+		case perM < 0 || fixed < 0:
+			info.excluded = append(info.excluded, fmt.Sprintf("%s: the price book prices no cable, termination or transceiver it needs at %s", med, media.FormatRate(rate)))
+			continue
+		case maxRoute <= 0:
+			info.excluded = append(info.excluded, fmt.Sprintf("%s: reaches at most %.1f m of channel; risers, slack and laterals alone take %.1f m", med, maxCh, riser+slack+lateral))
+			continue
+		}
+		// What the leg takes whatever its path: the cable of its risers, laterals, service coils,
+		// entrance loops and the halves of the structure loops at its ends that its spans leave
+		// out (problem), with waste, and their pulls; a diverse link pays them again for its
+		// second leg, when it gets one.
+		fixed += media.MulCents(perM, items.Wasted(d, ends)) + m.cents(endItems...)
+		second := int64(0)
+		if l.Diverse {
+			second = fixed
+		}
+		od := cableOD(mm, strands)
+		if d.Innerduct() {
+			if !items.InnerductFits(d, od) {
+				exclude |= flagDuct
+				info.excluded = append(info.excluded, fmt.Sprintf("%s: its %g mm cable does not fit the %g mm innerduct (53 %% fill, NFPA 70 Chapter 9 Table 1), so it is kept off ducts",
+					med, od, d.InnerductIDMM))
+			}
+			od = d.InnerductODMM // ducts hold the innerducts
+		}
+		dm.Options = append(dm.Options, optimize.Option{Name: med, CablePerMCents: perM, FixedCents: fixed, SecondLegCents: second,
+			MaxRouteM: maxRoute, ExcludeFlags: exclude, CableODMM: od})
+		info.options = append(info.options, med)
+	}
+	return dm, info
+}
+
+// cableKey is what cableFor's answer depends on.
+type cableKey struct {
+	medium                       string
+	rate, future, riserM, slackM float64
+	strands                      int
+}
+
+// cableFor is the cable price per metre the rules let medium run outdoors with the link's
+// risers and slackM of slack (media.Engine.CableFor), remembered per plan.
+func (m *Model) cableFor(medium string, rate float64, facts media.Link, slackM float64) int64 {
+	k := cableKey{medium, rate, facts.FutureRateGbps, facts.RiserM, slackM, facts.Strands}
+	if v, ok := m.cableMemo[k]; ok {
+		return v
+	}
+	facts.Outdoor, facts.SlackM = true, slackM
+	v := m.eng.CableFor(medium, rate, facts)
+	m.cableMemo[k] = v
+	return v
+}
+
+// cableOD is the outside diameter in millimetres of the outdoor-rated cable of the medium
+// for the strands, or of its first construction when none is outdoor-rated.
+func cableOD(m *media.Medium, strands int) float64 {
+	if m.Kind == media.KindCopper {
+		strands = (strands + 1) / 2
+	}
+	for _, k := range m.Constructions {
+		if k.OutdoorRated {
+			size, _ := k.Fit(strands)
+			return size.ODMM
+		}
+	}
+	if len(m.Constructions) > 0 {
+		size, _ := m.Constructions[0].Fit(strands)
+		return size.ODMM
+	}
+	return 0
+}
+
+// cents prices quantities one by one (media.PriceBook.Cents) and sums them.
+func (m *Model) cents(qs ...media.Quantity) int64 {
+	var c int64
+	for _, q := range qs {
+		c += m.prices.Cents(q)
+	}
+	return c
+}
+
+// perM is the price of quantities given per metre, in whole cents per metre (every money
+// price in a book is whole cents, so for material and construction this is exact).
+func (m *Model) perM(qs ...media.Quantity) int64 {
+	var c float64
+	for _, q := range qs {
+		u, _ := m.prices.UnitCents(q)
+		c += u * q.Amount
+	}
+	return int64(math.Round(c))
+}

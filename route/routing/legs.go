@@ -1,0 +1,228 @@
+package routing
+
+import (
+	"fmt"
+	"sort"
+	"strconv"
+	"strings"
+
+	"spanwright/geo"
+	"spanwright/media"
+	"spanwright/route/optimize"
+	"spanwright/route/site"
+)
+
+// Leg names.
+const (
+	LegPrimary = "primary"
+	LegDiverse = "diverse"
+)
+
+// Leg is one routed cable of a link: the primary, or the diverse second route.
+type Leg struct {
+	Link     *site.Link
+	Name     string     // LegPrimary or LegDiverse
+	Steps    []geo.Step // spans from the served building's access junction to the cross-connect's
+	Pathways []string   // pathway IDs in travel order, each once
+	RouteM   float64    // along pathways, laterals at both ends included, in metres
+	LateralM float64    // the laterals alone, in metres
+	RiserM   float64    // risers at both ends, in metres
+	Feasible bool
+	Reason   string // why the leg is infeasible, or notes
+
+	// The medium decision, filled by the media rule engine.
+	Medium        string       // catalog medium id, e.g. "os2"; "" when infeasible
+	Application   string       // IEEE 802.3 PHY, e.g. "10GBASE-LR"
+	Construction  string       // cable construction id
+	Inside        string       // with an entrance transition: the listed construction spliced on at both entrances; "" without
+	StrandsCable  int          // strands (or copper pairs) of the cable installed, after growth and rounding
+	Losses        []media.Loss // per wavelength, fibre only
+	WorstMarginDB float64      // smallest loss margin over the operating wavelengths; 0 for copper
+	Choice        string       // the rule engine's reason for the medium
+	Rejected      []media.Rejection
+
+	// Cable is the leg's cable takeoff: slack loops, length bought, reels and the mid-span
+	// splices between them, which the loss budget counts (see CableTakeoff).
+	Cable CableTakeoff
+
+	Cost LegCost
+}
+
+// LegCost breaks down what one leg costs, in integer cents of the price book's currency: its
+// bill items (legItems) priced one by one, and its share of new construction.
+type LegCost struct {
+	CableCents        int64 // cable material, entrance transitions and reel joins
+	LabourCents       int64 // installation labour: pulls, splicing, terminating, testing
+	ConstructionCents int64 // innerduct, and this leg's share of new trench it opens and of added duct
+	OpticsCents       int64 // terminations, patch cords and transceivers
+}
+
+// TotalCents is the sum of the breakdown.
+func (c LegCost) TotalCents() int64 {
+	return c.CableCents + c.LabourCents + c.ConstructionCents + c.OpticsCents
+}
+
+// legsOf turns the optimizer's route of one link into its legs, with media and costs.
+func legsOf(s *site.Site, cm *Model, prob *optimize.Problem, rt *optimize.Route, l *site.Link, info demandInfo, why string) []Leg {
+	from, to := s.Access(l.To), s.Access(l.From)
+	base := Leg{Link: l, RiserM: info.facts.RiserM, LateralM: from.LateralM + to.LateralM, StrandsCable: info.strands}
+	primary := base
+	primary.Name = LegPrimary
+	if !rt.Feasible {
+		primary.Reason = why
+		if primary.Reason == "" {
+			primary.Reason = "no route and medium satisfy the rules"
+		}
+		if len(info.excluded) > 0 {
+			primary.Reason += "; before routing: " + strings.Join(info.excluded, "; ")
+		}
+		legs := []Leg{primary}
+		if l.Diverse {
+			d := base
+			d.Name, d.Reason = LegDiverse, "the primary leg is infeasible"
+			legs = append(legs, d)
+		}
+		return legs
+	}
+	fillLeg(s, cm, &primary, rt.Primary, rt.Medium, info)
+	primary.Cost.ConstructionCents += rt.Cost.ConstructionShareCents + rt.Cost.AddedDuctCents
+	legs := []Leg{primary}
+	if l.Diverse {
+		d := base
+		d.Name = LegDiverse
+		if len(rt.Secondary.Hops) > 0 {
+			fillLeg(s, cm, &d, rt.Secondary, rt.Medium, info)
+		} else {
+			d.Reason = "no diverse route: " + singlePoint(s, prob, rt)
+		}
+		legs = append(legs, d)
+	}
+	return legs
+}
+
+// fillLeg sets a leg's route and its medium from the rule engine on the route's own facts;
+// the estimate prices it (package estimate).
+func fillLeg(s *site.Site, cm *Model, leg *Leg, ol optimize.Leg, medium string, info demandInfo) {
+	leg.RouteM = leg.LateralM
+	emi := geo.EMINone
+	outdoor := leg.LateralM > 0
+	plenum := false
+	types := map[string]bool{}
+	seen := map[string]bool{}
+	for _, h := range ol.Hops {
+		sp := &s.Net.Spans[h.Edge]
+		leg.Steps = append(leg.Steps, geo.Step{SpanID: sp.ID, Reverse: !h.Forward})
+		leg.RouteM += sp.LengthM
+		if !seen[sp.PathwayID] {
+			seen[sp.PathwayID] = true
+			leg.Pathways = append(leg.Pathways, sp.PathwayID)
+		}
+		types[sp.Type] = true
+		plenum = plenum || sp.Plenum
+		if sp.Type != geo.TypeTray {
+			outdoor = true
+		}
+		if emiRank[sp.EMI] > emiRank[emi] {
+			emi = sp.EMI
+		}
+	}
+	facts := info.facts
+	facts.RouteM = leg.RouteM
+	facts.MaxEMI = emi
+	facts.Outdoor = outdoor
+	facts.Plenum = plenum
+	for t := range types {
+		facts.PathwayTypes = append(facts.PathwayTypes, t)
+	}
+	sort.Strings(facts.PathwayTypes)
+	// The installation's slack loops and reel joins go into the loss budget.
+	leg.Cable = takeoff(s, cm.design, leg)
+	facts.SlackM, facts.Splices = leg.Cable.SlackM(), facts.Splices+leg.Cable.Joins
+	ch := cm.eng.Choose(facts)
+	leg.Rejected = ch.Rejected
+	leg.Choice = ch.Reason
+	if !ch.Feasible {
+		leg.Reason = ch.Reason
+		return
+	}
+	leg.Feasible = true
+	leg.Cable.Fit(cm.eng.Catalog(), ch, leg.RiserM, cm.design.WastePct)
+	leg.Medium, leg.Application, leg.Construction, leg.Inside = ch.Medium, ch.Application, ch.Construction, ch.Inside
+	leg.Losses = ch.Losses
+	leg.WorstMarginDB = worstMargin(ch.Losses)
+	if ch.Medium != medium {
+		leg.Choice += fmt.Sprintf(" (the optimizer routed it for %s)", medium)
+	}
+}
+
+var emiRank = map[string]int{geo.EMINone: 0, geo.EMILow: 1, geo.EMIHigh: 2}
+
+// worstMargin is the smallest margin over the operating wavelengths, 0 when none.
+func worstMargin(ls []media.Loss) float64 {
+	w, any := 0.0, false
+	for _, l := range ls {
+		if !l.Operating {
+			continue
+		}
+		if !any || l.MarginDB < w {
+			w, any = l.MarginDB, true
+		}
+	}
+	return w
+}
+
+// singlePoint says in words what keeps a diverse link from two independent routes.
+func singlePoint(s *site.Site, prob *optimize.Problem, rt *optimize.Route) string {
+	sp := rt.SinglePoint
+	if sp == nil {
+		if rt.Note != "" {
+			return rt.Note
+		}
+		return "no second route found"
+	}
+	var what string
+	switch sp.Kind {
+	case optimize.PointEdge:
+		what = fmt.Sprintf("every route uses span %s (pathway %s)", s.Net.Spans[sp.Index].ID, s.Net.Spans[sp.Index].PathwayID)
+	case optimize.PointNode:
+		what = fmt.Sprintf("every route passes junction %s", s.Net.Junctions[sp.Index].ID)
+	case optimize.PointGroup:
+		what = fmt.Sprintf("every route found shares the shared-risk group %s", groupName(s, prob, sp.Index))
+	}
+	if !sp.Separates && sp.Kind == optimize.PointGroup {
+		what += " (a heuristic finding: group-disjoint routing is NP-hard)"
+	}
+	return what
+}
+
+func groupName(s *site.Site, prob *optimize.Problem, g int) string {
+	for i, e := range prob.Edges {
+		if e.Group == g {
+			return s.Net.Spans[i].Group
+		}
+	}
+	return strconv.Itoa(g)
+}
+
+// SegmentFill is the duct fill of one span that carries cable.
+type SegmentFill struct {
+	Span           string
+	PathwayID      string
+	Cables         int
+	Limited        bool // false: unlimited capacity (proposed, tunnel, tray, aerial, buried)
+	Ducts          int
+	AddedDucts     int
+	UsedAreaMM2    float64
+	AllowedAreaMM2 float64
+}
+
+func fillReport(s *site.Site, prob *optimize.Problem, sol *optimize.Solution) []SegmentFill {
+	out := make([]SegmentFill, 0, len(sol.Fill))
+	for _, f := range sol.Fill {
+		sp := &s.Net.Spans[f.Edge]
+		out = append(out, SegmentFill{Span: sp.ID, PathwayID: sp.PathwayID, Cables: f.Cables, Limited: f.Limited,
+			Ducts: f.Ducts, AddedDucts: f.AddedDucts, UsedAreaMM2: f.UsedAreaMM2, AllowedAreaMM2: f.AllowedAreaMM2})
+	}
+	sort.Slice(out, func(i, j int) bool { return out[i].Span < out[j].Span })
+	return out
+}

@@ -1,0 +1,124 @@
+package routing
+
+import (
+	"strings"
+	"testing"
+
+	"spanwright/media"
+	"spanwright/route/internal/testsite"
+	"spanwright/route/optimize"
+	"spanwright/route/plan"
+)
+
+// rulesWith is the default rule file with the rule id dropped (when drop is set) and extra
+// YAML rules appended.
+func rulesWith(t *testing.T, drop, extra string) *media.Rules {
+	t.Helper()
+	def := media.DefaultRules()
+	var keep []*media.Rule
+	for _, r := range def.Rules {
+		if r.ID != drop {
+			keep = append(keep, r)
+		}
+	}
+	r := *def
+	r.Rules = keep
+	if extra != "" {
+		more, err := media.ParseRules("extra.yaml", []byte("rules:\n"+extra))
+		if err != nil {
+			t.Fatal(err)
+		}
+		r.Rules = append(r.Rules, more.Rules...)
+	}
+	return &r
+}
+
+// excluded lists, for the demo campus's problem under rules, the span classes each medium is
+// kept off, as "medium:class".
+func excluded(t *testing.T, rules *media.Rules) map[string]bool {
+	t.Helper()
+	s, p := testsite.Demo(t)
+	eng, err := media.NewEngine(nil, rules, nil, plan.EngineOptions(p))
+	if err != nil {
+		t.Fatal(err)
+	}
+	hub, _ := s.Hub(p)
+	links, errs := s.Links(p, hub)
+	if len(errs) > 0 {
+		t.Fatal(errs)
+	}
+	cm, err := NewModel(eng, p.Design)
+	if err != nil {
+		t.Fatal(err)
+	}
+	prob, _, err := problem(s, cm, links)
+	if err != nil {
+		t.Fatal(err)
+	}
+	out := map[string]bool{}
+	for _, d := range prob.Demands {
+		for _, o := range d.Options {
+			for _, c := range cm.classes {
+				if o.ExcludeFlags&cm.classBit[c] != 0 {
+					out[o.Name+":"+c.String()] = true
+				}
+			}
+		}
+	}
+	// Every edge carries its class's flag.
+	for i, e := range prob.Edges {
+		if e.Flags&cm.classBit[classOf(&s.Net.Spans[i])] == 0 {
+			t.Fatalf("edge %s lacks its class flag", e.ID)
+		}
+	}
+	return out
+}
+
+// TestOneRuleSource: which spans a medium may use comes from the rule file, both ways. The
+// default copper-emi rule (common practice, no published source) keeps copper off high-EMI
+// spans; without it copper may use them. A rule added to the file keeps its medium off the
+// spans it names.
+func TestOneRuleSource(t *testing.T) {
+	t.Parallel()
+	def := excluded(t, nil)
+	if !def["cat6a:duct, high EMI"] {
+		t.Fatalf("default rules: copper not kept off high-EMI ducts; excluded: %v", def)
+	}
+	if def["os2:duct, high EMI"] {
+		t.Errorf("default rules: fibre kept off high-EMI ducts")
+	}
+	noEMI := excluded(t, rulesWith(t, "copper-emi", ""))
+	for k := range noEMI {
+		if strings.Contains(k, "high EMI") && strings.HasPrefix(k, "cat6a:") && !def[strings.Replace(k, ", high EMI", "", 1)] {
+			t.Errorf("without copper-emi: %s still excluded", k)
+		}
+	}
+	aerial := excluded(t, rulesWith(t, "", `  - {id: om3-not-aerial, media: [om3], when: "has_aerial", effect: exclude, reason: "test rule", source: test}
+`))
+	if !aerial["om3:aerial"] || def["om3:aerial"] {
+		t.Errorf("an added rule keeping om3 off aerial spans: default %v, with the rule %v", def["om3:aerial"], aerial["om3:aerial"])
+	}
+	if aerial["om4:aerial"] {
+		t.Errorf("the added om3 rule kept om4 off aerial spans")
+	}
+}
+
+// TestExplainInfeasible: the optimizer's account of an unroutable link comes out in the
+// plan's words: media by name, excluded edges as the span classes the rules keep them off,
+// no node numbers or flag bits.
+func TestExplainInfeasible(t *testing.T) {
+	t.Parallel()
+	emi := spanClass{emi: "high", outdoor: true, typ: "duct"}
+	air := spanClass{emi: "none", outdoor: true, typ: "aerial"}
+	cm := &Model{classes: []spanClass{air, emi}, classBit: map[spanClass]uint64{air: firstClassFlag, emi: firstClassFlag << 1}}
+	got := cm.explain(optimize.Infeasible{Reason: "raw", Options: []optimize.OptionFailure{
+		{Name: "cat6a", Kind: optimize.FailNoPathFlags, ExcludeFlags: firstClassFlag<<1 | flagDuct},
+		{Name: "om4", Kind: optimize.FailReach, ShortestM: 612.34, ReachM: 400},
+		{Name: "os2", Kind: optimize.FailNoPath},
+	}})
+	want := "cat6a: no pathway joins its two ends on the spans its rules allow (it may not run on: ducts (the cable does not fit the innerduct); duct, high EMI); " +
+		"om4: the shortest route it may use is 612.3 m along pathways, beyond the 400.0 m it reaches there; os2: no pathway joins its two ends"
+	if got != want {
+		t.Errorf("got  %s\nwant %s", got, want)
+	}
+}

@@ -1,0 +1,65 @@
+package routing
+
+import (
+	"context"
+	"fmt"
+
+	"spanwright/route/internal/ctxio"
+	"spanwright/route/optimize"
+	"spanwright/route/site"
+)
+
+// Routed is a plan's routing: the legs of every link in link order, with their routes, media
+// and cable takeoffs, and what the optimizer decided for the plan as a whole.
+type Routed struct {
+	Legs   []Leg
+	Opened []string      // proposed spans the plan builds, by span ID
+	Fill   []SegmentFill // duct fill of every span that carries cable, by span ID
+	// ObjectiveCents is the optimizer's objective for the routes it returned
+	// (optimize.Solution.TotalCents): see the README's "One cost model".
+	ObjectiveCents int64
+}
+
+// Solve routes links over the site with the model's prices and rules, and chooses each leg's
+// medium with the model's engine. Each leg points into links. An infeasible leg does not stop
+// the others; it carries its reason. When ctx is done, the optimizer and the media choice stop
+// within a step and Solve returns ctx's error.
+func Solve(ctx context.Context, s *site.Site, m *Model, links []site.Link) (*Routed, error) {
+	prob, infos, err := problem(s, m, links)
+	if err != nil {
+		return nil, err
+	}
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	sol, err := solve(ctx, s, prob, optimize.Settings{Objective: m.design.Objective})
+	if err != nil {
+		if ctx.Err() != nil {
+			return nil, ctx.Err()
+		}
+		return nil, fmt.Errorf("route: optimizer: %w", err)
+	}
+	r := &Routed{ObjectiveCents: sol.TotalCents, Fill: fillReport(s, prob, sol)}
+	for _, e := range sol.Opened {
+		r.Opened = append(r.Opened, s.Net.Spans[e].ID)
+	}
+	infeasible := map[int]string{}
+	for _, in := range sol.Infeasible {
+		infeasible[in.Demand] = m.explain(in)
+	}
+	for i := range links {
+		if err := ctxio.StopEvery(ctx, i); err != nil {
+			return nil, err
+		}
+		r.Legs = append(r.Legs, legsOf(s, m, prob, &sol.Routes[i], &links[i], infos[i], infeasible[i])...)
+	}
+	return r, nil
+}
+
+// Problem is the optimizer's problem Solve states for links: one edge per span of the
+// site's network (same index), one demand per link, every price from the model. It is what
+// the optimizer's objective is computed on, for checks against the bill.
+func Problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, error) {
+	prob, _, err := problem(s, m, links)
+	return prob, err
+}

@@ -1,0 +1,78 @@
+package routing
+
+import (
+	"math"
+	"spanwright/media"
+	"spanwright/route/plan"
+	"spanwright/route/site"
+)
+
+// CableTakeoff is what one leg needs of its cable. Lengths are metres of one cable; a leg
+// with more strands than the largest size has Cables of them side by side.
+type CableTakeoff struct {
+	EndSlackM      float64 // service coils at both ends: 2 × design.slack_m
+	EntranceLoopM  float64 // slack loops at both building entrances
+	Structures     int     // maintenance holes and handholes the route passes
+	StructureLoopM float64 // slack loops at those structures
+	// ChannelM is route (laterals included) + risers + every slack loop: the length the loss
+	// budget counts.
+	ChannelM float64
+	WasteM   float64 // design.waste_pct of ChannelM
+	LengthM  float64 // the length bought: ChannelM + WasteM rounded up to a whole metre
+	Reels    int     // reels of at most design.reel_m that LengthM takes
+	Joins    int     // mid-span splices between reels; each strand's path crosses every one
+
+	// Filled once the medium is chosen.
+	Size   media.Size // the cable size of the chosen construction
+	Cables int        // cables of Size
+	// Terminated is the strands terminated at each end; for copper, the 4-pair cables, one
+	// per two strands (the catalog lists copper per 4-pair cable only: multipair backbone
+	// cable of 25 to 600 pairs carries no IEEE 802.3 application it lists, so it is neither
+	// priced nor chosen).
+	Terminated int
+
+	// With an entrance transition (Leg.Inside): the part of LengthM bought as the inside
+	// construction, which runs the risers and the service coils at both ends (with waste),
+	// in InsideCables cables of InsideSize; the rest of LengthM is the outside-plant cable.
+	InsideLengthM float64
+	InsideSize    media.Size
+	InsideCables  int
+}
+
+// OutsideLengthM is the length bought of the leg's own construction: all of LengthM, or
+// what the inside cable of a transition leaves.
+func (t CableTakeoff) OutsideLengthM() float64 { return t.LengthM - t.InsideLengthM }
+
+// SlackM is every slack loop of the leg, in metres.
+func (t CableTakeoff) SlackM() float64 { return t.EndSlackM + t.EntranceLoopM + t.StructureLoopM }
+
+// takeoff measures a routed leg's cable before its medium is known: slack loops, channel,
+// waste and reels. The rule engine then decides on the channel and the reel joins (fed back
+// as splices in the loss budget); Fit completes it with the chosen construction.
+func takeoff(s *site.Site, d plan.Design, leg *Leg) CableTakeoff {
+	t := CableTakeoff{EndSlackM: 2 * d.SlackM, EntranceLoopM: 2 * d.SlackLoopEntranceM}
+	t.Structures = s.StructuresPassed(leg.Steps)
+	t.StructureLoopM = float64(t.Structures) * d.SlackLoopStructureM
+	t.ChannelM = leg.RouteM + leg.RiserM + t.SlackM()
+	t.WasteM = t.ChannelM * d.WastePct / 100
+	t.LengthM = math.Ceil(t.ChannelM + t.WasteM - 1e-9)
+	t.Reels = 1
+	if d.ReelM > 0 { // a plan built in code may leave it 0: no reel limit
+		t.Reels = max(1, int(math.Ceil(t.LengthM/d.ReelM-1e-9)))
+	}
+	t.Joins = t.Reels - 1
+	return t
+}
+
+// Fit fills the takeoff's cable size from the rule engine's choice; with an entrance
+// transition, also the inside cable, which takes riserM and the service coils, with the
+// design's waste.
+func (t *CableTakeoff) Fit(cat *media.Catalog, ch media.Choice, riserM, wastePct float64) {
+	m := cat.Medium(ch.Medium)
+	t.Size, t.Cables = m.Construction(ch.Construction).Fit(ch.Strands)
+	t.Terminated = ch.Strands
+	if ch.Inside != "" {
+		t.InsideSize, t.InsideCables = m.Construction(ch.Inside).Fit(ch.Strands)
+		t.InsideLengthM = math.Min(t.LengthM, math.Ceil((riserM+t.EndSlackM)*(1+wastePct/100)-1e-9))
+	}
+}

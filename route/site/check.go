@@ -1,0 +1,88 @@
+package site
+
+import (
+	"sort"
+
+	"gonum.org/v1/gonum/graph/topo"
+)
+
+// CheckReport is what `spanwright check` prints about a campus.
+type CheckReport struct {
+	Buildings   int
+	ByRole      map[string]int // "mc", "ic", "served"
+	Pathways    []PathwayTally // by type then status
+	Structures  int
+	Junctions   int
+	Spans       int
+	Components  int      // connected components of the pathway network that hold a building
+	Hub         string   // "" when none could be resolved
+	Unreachable []string // buildings with no path to the hub
+	Warnings    []string
+}
+
+// PathwayTally counts pathways of one type and status and their length in metres.
+type PathwayTally struct {
+	Type, Status string
+	Pathways     int
+	LengthM      float64
+}
+
+// Check summarises the site; hub may be "" (then the mc building, if any, is used).
+func (s *Site) Check(hub string) CheckReport {
+	r := CheckReport{Buildings: len(s.Campus.Buildings), ByRole: map[string]int{},
+		Structures: len(s.Campus.Structures), Junctions: len(s.Net.Junctions), Spans: len(s.Net.Spans)}
+	for _, b := range s.Campus.Buildings {
+		role := b.Role
+		if role == "" {
+			role = "served"
+		}
+		r.ByRole[role]++
+	}
+	type key struct{ t, st string }
+	tally := map[key]*PathwayTally{}
+	pathways := map[key]map[string]bool{}
+	for _, sp := range s.Net.Spans {
+		k := key{sp.Type, sp.Status}
+		if tally[k] == nil {
+			tally[k] = &PathwayTally{Type: sp.Type, Status: sp.Status}
+			pathways[k] = map[string]bool{}
+		}
+		tally[k].LengthM += sp.LengthM
+		pathways[k][sp.PathwayID] = true
+	}
+	for k, t := range tally {
+		t.Pathways = len(pathways[k])
+		r.Pathways = append(r.Pathways, *t)
+	}
+	sort.Slice(r.Pathways, func(i, j int) bool {
+		a, b := r.Pathways[i], r.Pathways[j]
+		if a.Type != b.Type {
+			return a.Type < b.Type
+		}
+		return a.Status < b.Status
+	})
+	withBuilding := map[int64]bool{}
+	for _, a := range s.Net.Access {
+		n, _ := s.Graph.NodeOf(a.Junction)
+		withBuilding[n] = true
+	}
+	for _, comp := range topo.ConnectedComponents(s.Graph) {
+		for _, n := range comp {
+			if withBuilding[n.ID()] {
+				r.Components++
+				break
+			}
+		}
+	}
+	if hub == "" {
+		hub = s.MainCrossConnect()
+	}
+	if _, ok := s.building[hub]; ok {
+		r.Hub = hub
+		r.Unreachable = s.Unreachable(hub)
+	}
+	for _, w := range s.Net.Warnings {
+		r.Warnings = append(r.Warnings, w.File+": "+w.Feature+": "+w.Message)
+	}
+	return r
+}

@@ -1,0 +1,98 @@
+package site
+
+import (
+	"spanwright/geo"
+	"spanwright/geo/input"
+	"spanwright/route/plan"
+)
+
+// JunctionsOf lists the junction IDs along steps: the start, then the end of every step.
+func (s *Site) JunctionsOf(steps []geo.Step) []string {
+	if len(steps) == 0 {
+		return nil
+	}
+	out := make([]string, 0, len(steps)+1)
+	for i, st := range steps {
+		sp, _ := s.Net.Span(st.SpanID)
+		from, to := sp.From, sp.To
+		if st.Reverse {
+			from, to = to, from
+		}
+		if i == 0 {
+			out = append(out, from)
+		}
+		out = append(out, to)
+	}
+	return out
+}
+
+// LoopStructure reports whether a junction gets a slack loop: a maintenance hole or handhole.
+func (s *Site) LoopStructure(id string) bool {
+	j, ok := s.Net.Junction(id)
+	return ok && j.Kind == geo.JunctionStructure &&
+		(j.StructureType == geo.StructureMaintenanceHole || j.StructureType == geo.StructureHandhole)
+}
+
+func (s *Site) StructuresPassed(steps []geo.Step) int {
+	n := 0
+	for _, id := range s.JunctionsOf(steps) {
+		if s.LoopStructure(id) {
+			n++
+		}
+	}
+	return n
+}
+
+// IsStructure reports whether junction id is a structure (a maintenance hole, handhole,
+// pull box or vault).
+func (s *Site) IsStructure(id string) bool {
+	j, ok := s.Net.Junction(id)
+	return ok && j.Kind == geo.JunctionStructure
+}
+
+// Hub resolves the plan's hub: the plan's hub, else the building with role mc.
+func (s *Site) Hub(p *plan.Plan) (string, error) {
+	hub := p.Hub
+	if hub == "" {
+		hub = s.MainCrossConnect()
+		if hub == "" {
+			return "", p.Problem("hub", input.Errorf(input.ErrMissingKey, "missing; no building has role mc to be the hub"))
+		}
+	}
+	if _, ok := s.building[hub]; !ok {
+		return "", p.Problem("hub", input.Errorf(input.ErrBadValue, "want the id of a building, got %q, which no building has", hub))
+	}
+	return hub, nil
+}
+
+// UnreachableServed lists the buildings at either end of a link that cannot reach the hub.
+func (s *Site) UnreachableServed(hub string, links []Link) []string {
+	un := s.Unreachable(hub)
+	need := map[string]bool{}
+	for _, l := range links {
+		need[l.From], need[l.To] = true, true
+	}
+	var out []string
+	for _, b := range un {
+		if need[b] {
+			out = append(out, b)
+		}
+	}
+	return out
+}
+
+// JoinsNetwork reports whether an opened span ending at junction j gets a handhole there: j
+// is a junction without a structure that is not a building's access point (common practice,
+// no published source).
+func (s *Site) JoinsNetwork(j string) bool {
+	jn, ok := s.Net.Junction(j)
+	if !ok || jn.Kind != geo.JunctionNode {
+		return false
+	}
+	for _, a := range s.Net.Access {
+		if a.Junction == j {
+			return false
+		}
+	}
+	return true
+}

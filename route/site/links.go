@@ -1,0 +1,156 @@
+package site
+
+import (
+	"fmt"
+	"sort"
+
+	"spanwright/geo"
+	"spanwright/geo/input"
+	"spanwright/route/plan"
+)
+
+// Link is one backbone link the plan needs: a cable (or a diverse pair) from the
+// cross-connect building From to the building To.
+type Link struct {
+	ID         string // From + "-" + To, with "#n" added when the pair repeats
+	From, To   string // building IDs: cross-connect end, served end
+	Rate       string // e.g. "10G"
+	FutureRate string // "" when none
+	Strands    int    // required strands before growth
+	Growth     float64
+	Diverse    bool
+	Explicit   bool // set by an entry of the plan's links list
+	Line       int  // that entry's line in the plan file, 0 for a default link
+}
+
+// Links resolves the plan's link list against the site: the defaults of the ANSI/TIA-568
+// hierarchical star (each ic to the hub, each served building to its nearest cross-connect
+// by network distance), then the plan's entries, which replace the default link of the
+// building they name or add a link from another building. It returns every problem at once.
+func (s *Site) Links(p *plan.Plan, hub string) ([]Link, []error) {
+	var errs []error
+	var spec int // the entry of the plan's links list being resolved
+	bad := func(key, format string, args ...any) {
+		errs = append(errs, p.Problem(fmt.Sprintf("links[%d].%s", spec, key), input.Errorf(input.ErrBadValue, format, args...)))
+	}
+	var xcs []string // cross-connects other than the hub, sorted
+	for _, b := range s.Campus.Buildings {
+		if b.Role == geo.RoleIC && b.ID != hub {
+			xcs = append(xcs, b.ID)
+		}
+	}
+	sort.Strings(xcs)
+	fromHub := s.distancesFrom(hub)
+	dist := map[string]map[string]float64{hub: fromHub}
+	for _, x := range xcs {
+		dist[x] = s.distancesFrom(x)
+	}
+	nearest := func(b string) string {
+		best, bestD := hub, fromHub[b]
+		_, reach := fromHub[b]
+		for _, x := range xcs {
+			if d, ok := dist[x][b]; ok && (!reach || d < bestD) {
+				best, bestD, reach = x, d, true
+			}
+		}
+		return best
+	}
+	base := func(from, to string) Link {
+		d := p.Defaults
+		return Link{From: from, To: to, Rate: d.Rate, FutureRate: d.FutureRate, Strands: d.Strands,
+			Growth: d.Growth, Diverse: d.Redundancy == plan.RedundancyDiverse}
+	}
+
+	byTo := map[string]int{} // default link index by served building
+	var links []Link
+	for _, b := range s.Campus.Buildings {
+		if b.ID == hub {
+			continue
+		}
+		from := hub
+		if b.Role != geo.RoleIC {
+			from = nearest(b.ID)
+		}
+		byTo[b.ID] = len(links)
+		links = append(links, base(from, b.ID))
+	}
+	skip := map[int]bool{}
+	for n, ls := range p.Links {
+		spec = n
+		if _, ok := s.building[ls.To]; !ok {
+			bad("to", "unknown building %q", ls.To)
+			continue
+		}
+		if ls.From != "" {
+			if _, ok := s.building[ls.From]; !ok {
+				bad("from", "unknown building %q", ls.From)
+				continue
+			}
+		}
+		if ls.To == hub && (ls.From == "" || ls.From == hub) {
+			bad("to", "%q is the hub; a link needs two different buildings", ls.To)
+			continue
+		}
+		if ls.From == ls.To {
+			bad("from", "a link from %q to itself", ls.To)
+			continue
+		}
+		i, ok := byTo[ls.To]
+		if ls.Skip {
+			if ok && (ls.From == "" || links[i].From == ls.From) {
+				skip[i] = true
+			} else {
+				bad("skip", "no default link to %q from %q to skip", ls.To, ls.From)
+			}
+			continue
+		}
+		var l Link
+		if ok && (ls.From == "" || !links[i].Explicit) {
+			l = links[i] // the entry replaces the building's default link
+		} else {
+			i = len(links)
+			links = append(links, base("", ls.To))
+			l = links[i]
+			if ls.From == "" {
+				ls.From = nearest(ls.To)
+			}
+		}
+		if ls.From != "" {
+			l.From = ls.From
+		}
+		if ls.Rate != "" {
+			l.Rate = ls.Rate
+		}
+		if ls.FutureRate != "" {
+			l.FutureRate = ls.FutureRate
+		}
+		if ls.Strands > 0 {
+			l.Strands = ls.Strands
+		}
+		if ls.Growth != nil {
+			l.Growth = *ls.Growth
+		}
+		if ls.Redundancy != "" {
+			l.Diverse = ls.Redundancy == plan.RedundancyDiverse
+		}
+		l.Explicit, l.Line = true, ls.Line
+		links[i] = l
+		byTo[ls.To] = i
+	}
+	out := links[:0:0]
+	seen := map[string]int{}
+	for i, l := range links {
+		if skip[i] {
+			continue
+		}
+		id := l.From + "-" + l.To
+		seen[id]++
+		if n := seen[id]; n > 1 {
+			id = fmt.Sprintf("%s#%d", id, n)
+		}
+		l.ID = id
+		out = append(out, l)
+	}
+	sort.SliceStable(out, func(i, j int) bool { return out[i].ID < out[j].ID })
+	return out, errs
+}

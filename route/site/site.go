@@ -1,0 +1,156 @@
+package site
+
+import (
+	"context"
+	"io/fs"
+	"sort"
+	"sync"
+
+	lru "github.com/hashicorp/golang-lru/v2"
+	"gonum.org/v1/gonum/graph/path"
+
+	"spanwright/geo"
+	"spanwright/media/install"
+	"spanwright/route/optimize"
+)
+
+// Site is a campus read and noded once, shared read-only by every scenario planned on it.
+type Site struct {
+	Campus *geo.Campus
+	Net    *geo.Network
+	Graph  *Graph // weighted by span length, in metres
+
+	building map[string]*geo.Building
+	access   map[string]geo.Access
+	dist     sync.Map // building ID → map[string]float64, see distancesFrom
+
+	// Solved keeps the optimizer's solutions of the routing problems solved on this site, by
+	// fingerprint of the canonical problem (see package routing), and Pulls the pull plans of
+	// duct runs (see package estimate): scenarios of a sweep share both.
+	Solved *lru.Cache[[32]byte, *optimize.Solution]
+	Pulls  *install.Memo
+}
+
+// solvedCacheSize bounds the optimizer solutions a site keeps: a sweep's scenarios often
+// share a routing problem (axes such as slack, growth or the budget that change no route
+// cost), and a bounded cache keeps a long sweep's memory flat when they do not.
+const solvedCacheSize = 64
+
+// pullCacheSize bounds the pull plans a site keeps: a few hundred scenarios' duct runs of a
+// mid-sized campus.
+const pullCacheSize = 8192
+
+// Options are the noding options a site is built with, and the cap on its files.
+type Options struct {
+	SnapM       float64
+	MaxLateralM float64
+	// MaxInputBytes caps each campus file, in bytes; 0 for input.DefaultDataMiB MiB.
+	MaxInputBytes int64
+}
+
+// Load reads the campus files and builds the network. fsys, when not nil, is read
+// instead of the disk (the embedded demo). When ctx is done, reading and building stop and
+// LoadSite returns ctx's error.
+func Load(ctx context.Context, fsys fs.FS, files []string, opt Options) (*Site, error) {
+	var c *geo.Campus
+	var err error
+	if fsys != nil {
+		c, err = geo.LoadFSContext(ctx, fsys, files)
+	} else {
+		c, err = geo.LoadLimitContext(ctx, files, opt.MaxInputBytes)
+	}
+	if err != nil {
+		return nil, err
+	}
+	net, err := geo.BuildContext(ctx, c, geo.Options{SnapM: opt.SnapM, MaxLateralM: opt.MaxLateralM})
+	if err != nil {
+		return nil, err
+	}
+	return NewSite(c, net), nil
+}
+
+// NewSite wraps an already built network.
+func NewSite(c *geo.Campus, net *geo.Network) *Site {
+	s := &Site{Campus: c, Net: net, Graph: NewGraph(net),
+		building: make(map[string]*geo.Building, len(c.Buildings)),
+		access:   make(map[string]geo.Access, len(net.Access))}
+	s.Solved, _ = lru.New[[32]byte, *optimize.Solution](solvedCacheSize) // errs only on size <= 0
+	s.Pulls = install.NewMemo(pullCacheSize)
+	for i := range c.Buildings {
+		s.building[c.Buildings[i].ID] = &c.Buildings[i]
+	}
+	for _, a := range net.Access {
+		s.access[a.Building] = a
+	}
+	return s
+}
+
+// Building returns the building with the given ID.
+func (s *Site) Building(id string) (*geo.Building, bool) {
+	b, ok := s.building[id]
+	return b, ok
+}
+
+// MainCrossConnect returns the ID of the building whose role is mc, or "".
+func (s *Site) MainCrossConnect() string {
+	for _, b := range s.Campus.Buildings {
+		if b.Role == geo.RoleMC {
+			return b.ID
+		}
+	}
+	return ""
+}
+
+// distancesFrom returns, for every building, the network distance in metres from building
+// id (laterals included); unreachable buildings are absent. The site never changes, so the
+// answer is computed once per building and shared: callers must not modify the map.
+func (s *Site) distancesFrom(id string) map[string]float64 {
+	if d, ok := s.dist.Load(id); ok {
+		return d.(map[string]float64)
+	}
+	d := s.computeDistances(id)
+	s.dist.Store(id, d)
+	return d
+}
+
+func (s *Site) computeDistances(id string) map[string]float64 {
+	a, ok := s.access[id]
+	if !ok {
+		return nil
+	}
+	src, _ := s.Graph.NodeOf(a.Junction)
+	sh := path.DijkstraFrom(s.Graph.Node(src), s.Graph)
+	out := make(map[string]float64, len(s.access))
+	for b, ab := range s.access {
+		n, _ := s.Graph.NodeOf(ab.Junction)
+		d := sh.WeightTo(n)
+		if d < 1e300 {
+			out[b] = d + a.LateralM + ab.LateralM
+		}
+	}
+	return out
+}
+
+// Unreachable lists, sorted, the buildings that have no path to building hub.
+func (s *Site) Unreachable(hub string) []string {
+	d := s.distancesFrom(hub)
+	var out []string
+	for _, b := range s.Campus.Buildings {
+		if _, ok := d[b.ID]; !ok && b.ID != hub {
+			out = append(out, b.ID)
+		}
+	}
+	sort.Strings(out)
+	return out
+}
+
+// Access is the building's access point to the network (zero when the building has none).
+func (s *Site) Access(building string) geo.Access { return s.access[building] }
+
+// RiserM is the building's riser in metres, 0 for an unknown building.
+func (s *Site) RiserM(building string) float64 {
+	if b, ok := s.building[building]; ok {
+		return b.RiserM
+	}
+	return 0
+}

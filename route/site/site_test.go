@@ -1,0 +1,240 @@
+package site_test
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"strings"
+	"testing"
+
+	"gonum.org/v1/gonum/graph/path"
+
+	"spanwright/geo"
+	"spanwright/route"
+	"spanwright/route/internal/testplan"
+	"spanwright/route/internal/testsite"
+	"spanwright/route/output"
+	"spanwright/route/plan"
+	"spanwright/route/site"
+)
+
+// lineCampus builds a campus along one east-west street at latitude 52: buildings are
+// 20 m squares whose west edge sits at the given metre offsets, each reached by a short
+// pathway end inside its footprint. roles maps a building to "mc" or "ic".
+func lineCampus(t *testing.T, names []string, offsetsM []float64, roles map[string]string, extra string) *site.Site {
+	t.Helper()
+	const lat = 52.0
+	degX := func(m float64) float64 { return -1 + m/(111320*math.Cos(lat*math.Pi/180)) }
+	degY := func(m float64) float64 { return lat + m/111000 }
+	var f []string
+	var street []string
+	for i, n := range names {
+		x := offsetsM[i]
+		role := ""
+		if r := roles[n]; r != "" {
+			role = fmt.Sprintf(`,"role":%q`, r)
+		}
+		f = append(f, fmt.Sprintf(`{"type":"Feature","properties":{"kind":"building","id":%q%s},"geometry":{"type":"Polygon","coordinates":[[[%.7f,%.7f],[%.7f,%.7f],[%.7f,%.7f],[%.7f,%.7f],[%.7f,%.7f]]]}}`,
+			n, role, degX(x), degY(10), degX(x+20), degY(10), degX(x+20), degY(30), degX(x), degY(30), degX(x), degY(10)))
+		f = append(f, fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":"S-%s"},"geometry":{"type":"LineString","coordinates":[[%.7f,%.7f],[%.7f,%.7f]]}}`,
+			n, degX(x+10), degY(0), degX(x+10), degY(15)))
+		street = append(street, fmt.Sprintf("[%.7f,%.7f]", degX(x+10), degY(0)))
+	}
+	f = append(f, fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":"ST"},"geometry":{"type":"LineString","coordinates":[%s]}}`, strings.Join(street, ",")))
+	if extra != "" {
+		f = append(f, extra)
+	}
+	data := `{"type":"FeatureCollection","features":[` + strings.Join(f, ",") + `]}`
+	c, err := geo.Parse("line.geojson", []byte(data))
+	if err != nil {
+		t.Fatal(err)
+	}
+	net, err := geo.Build(c, geo.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return site.NewSite(c, net)
+}
+
+func TestLinksStar(t *testing.T) {
+	t.Parallel()
+	// A(mc) ... C D ... B(ic) E: C is nearer A, D and E nearer B.
+	s := lineCampus(t, []string{"A", "C", "D", "B", "E"}, []float64{0, 100, 400, 500, 600}, map[string]string{"A": "mc", "B": "ic"}, "")
+	p := plan.Default
+	p.File = "plan.yaml"
+	links, errs := s.Links(&p, "A")
+	if len(errs) > 0 {
+		t.Fatal(errs)
+	}
+	var got []string
+	for _, l := range links {
+		got = append(got, l.ID)
+	}
+	// ANSI/TIA-568 hierarchical star: ic to the hub, each served building to its nearest cross-connect.
+	if want := "A-B A-C B-D B-E"; strings.Join(got, " ") != want {
+		t.Errorf("default links: got %v, want %s", got, want)
+	}
+}
+
+func TestLinksOverrides(t *testing.T) {
+	t.Parallel()
+	s := lineCampus(t, []string{"A", "C", "D", "B", "E"}, []float64{0, 100, 400, 500, 600}, map[string]string{"A": "mc", "B": "ic"}, "")
+	zero := 0.0
+	p := plan.Default
+	p.File = "plan.yaml"
+	p.Links = []plan.LinkSpec{
+		{Line: 1, To: "C", Rate: "40G", Redundancy: plan.RedundancyDiverse},
+		{Line: 2, From: "A", To: "D", Rate: "1G", Growth: &zero},
+		{Line: 3, To: "E", Skip: true},
+		{Line: 4, From: "C", To: "D"}, // a second link to D, from C
+	}
+	links, errs := s.Links(&p, "A")
+	if len(errs) > 0 {
+		t.Fatal(errs)
+	}
+	byID := map[string]site.Link{}
+	var ids []string
+	for _, l := range links {
+		byID[l.ID] = l
+		ids = append(ids, l.ID)
+	}
+	if want := "A-B A-C A-D C-D"; strings.Join(ids, " ") != want {
+		t.Fatalf("links: got %v, want %s", ids, want)
+	}
+	if l := byID["A-C"]; l.Rate != "40G" || !l.Diverse || !l.Explicit || l.Line != 1 {
+		t.Errorf("A-C: got %+v", l)
+	}
+	if l := byID["A-D"]; l.Rate != "1G" || l.Growth != 0 || l.Diverse {
+		t.Errorf("A-D: got %+v", l)
+	}
+	if l := byID["C-D"]; l.Rate != "10G" || l.Strands != 12 {
+		t.Errorf("C-D keeps the defaults: got %+v", l)
+	}
+}
+
+func TestLinksErrors(t *testing.T) {
+	t.Parallel()
+	s := lineCampus(t, []string{"A", "C"}, []float64{0, 100}, map[string]string{"A": "mc"}, "")
+	p, err := plan.ParsePlan("plan.yaml", []byte("campus: [c]\nlinks:\n  - {to: X}\n  - {from: Y, to: C}\n  - {to: A}\n  - {from: C, to: C}\n"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, errs := s.Links(p, "A")
+	var msgs []string
+	for _, e := range errs {
+		msgs = append(msgs, e.Error())
+	}
+	all := strings.Join(msgs, "\n")
+	for _, want := range []string{`plan.yaml:3:10: links[0].to: unknown building "X"`, `plan.yaml:4:12: links[1].from: unknown building "Y"`,
+		`plan.yaml:5:10: links[2].to: "A" is the hub`, `plan.yaml:6:12: links[3].from: a link from "C" to itself`} {
+		if !strings.Contains(all, want) {
+			t.Errorf("got %q, want it to contain %q", all, want)
+		}
+	}
+}
+
+func TestGraphParallelSpans(t *testing.T) {
+	t.Parallel()
+	// A second, longer duct (ST2, via a point 30 m south) joins the same two street junctions:
+	// the graph keeps both spans and weighs the pair as the lighter one.
+	const lat = 52.0
+	degX := func(m float64) float64 { return -1 + m/(111320*math.Cos(lat*math.Pi/180)) }
+	degY := func(m float64) float64 { return lat + m/111000 }
+	st2 := fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":"ST2"},"geometry":{"type":"LineString","coordinates":[[%.7f,%.7f],[%.7f,%.7f],[%.7f,%.7f]]}}`,
+		degX(10), degY(0), degX(60), degY(-30), degX(110), degY(0))
+	s := lineCampus(t, []string{"A", "C"}, []float64{0, 100}, map[string]string{"A": "mc"}, st2)
+	if got := len(s.Net.Spans); got != 4 {
+		t.Fatalf("spans: got %d, want 4", got)
+	}
+	g := s.Graph
+	a, _ := g.NodeOf(s.Access("A").Junction)
+	c, _ := g.NodeOf(s.Access("C").Junction)
+	if d := path.DijkstraFrom(g.Node(a), g).WeightTo(c); math.Abs(d-(15+100+15)) > 0.5 {
+		t.Errorf("A to C: got %.2f m, want about 130 m", d)
+	}
+	g2 := site.NewGraph(s.Net)
+	g2.SetWeight(func(sp *geo.Span) float64 {
+		if sp.PathwayID == "ST" {
+			return math.Inf(1)
+		}
+		return sp.LengthM
+	})
+	want := 15 + 2*math.Hypot(50, 30) + 15
+	if d := path.DijkstraFrom(g2.Node(a), g2).WeightTo(c); math.Abs(d-want) > 0.5 {
+		t.Errorf("A to C without ST: got %.2f m, want about %.1f m over the parallel duct", d, want)
+	}
+}
+
+// TestSolvedCache plans the demo twice on one site and once on a fresh site: the second plan
+// reuses the first's optimizer solution and all three write the same bytes; a plan whose
+// routing problem differs (another objective) is solved afresh.
+func TestSolvedCache(t *testing.T) {
+	s, p := testsite.Demo(t)
+	fresh, _ := testsite.DemoFresh(t)
+	eng, err := plan.Engine(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	s.Solved.Purge()
+	render := func(site *site.Site, p *plan.Plan) map[string]string {
+		t.Helper()
+		res, err := route.SolveWith(context.Background(), site, p, eng)
+		if err != nil {
+			t.Fatal(err)
+		}
+		files, err := output.Files(context.Background(), res, output.WriteOptions{SkipWorkbook: true})
+		if err != nil {
+			t.Fatal(err)
+		}
+		out := map[string]string{}
+		for _, f := range files {
+			out[f.Name] = string(f.Data)
+		}
+		return out
+	}
+	first := render(s, p)
+	if s.Solved.Len() != 1 {
+		t.Fatalf("cache holds %d solutions after one plan, want 1", s.Solved.Len())
+	}
+	second := render(s, p)
+	if s.Solved.Len() != 1 {
+		t.Fatalf("cache holds %d solutions after the same plan twice, want 1", s.Solved.Len())
+	}
+	third := render(fresh, p)
+	for name, data := range first {
+		if second[name] != data || third[name] != data {
+			t.Errorf("%s differs between a cached and a fresh solve", name)
+		}
+	}
+	q := *p
+	q.Design.Objective = "length"
+	render(s, &q)
+	if s.Solved.Len() != 2 {
+		t.Errorf("cache holds %d solutions after a plan with another objective, want 2", s.Solved.Len())
+	}
+}
+
+// TestPlenumRoute joins two buildings by a tray that runs in a plenum: the link takes
+// plenum-rated cable (NFPA 70 Articles 770 and 800, cables in plenums; from memory); the same
+// tray outside a plenum takes riser cable.
+func TestPlenumRoute(t *testing.T) {
+	t.Parallel()
+	for _, plenum := range []bool{false, true} {
+		// A (the hub) and B 40 m apart, joined only by a tray from inside A to inside B.
+		data := fmt.Sprintf(`{"type":"FeatureCollection","features":[%s,%s,{"type":"Feature","properties":{"kind":"pathway","id":"T","type":"tray","plenum":%v},"geometry":{"type":"LineString","coordinates":[[%.7f,%.7f],[%.7f,%.7f]]}}]}`,
+			testsite.Box("A", "mc", 20, 20), testsite.Box("B", "", 60, 20), plenum, testsite.X(20), testsite.Y(20), testsite.X(60), testsite.Y(20))
+		r, err := testplan.PullSolveJSON(t, data, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if len(r.Legs) != 1 || !r.Legs[0].Feasible {
+			t.Fatalf("plenum %v: want one feasible leg, got %+v", plenum, r.Legs)
+		}
+		l := r.Legs[0]
+		k := r.Engine.Catalog().Medium(l.Medium).Construction(l.Construction)
+		t.Logf("plenum %v: %s %s, %.1f m", plenum, l.Medium, l.Construction, l.RouteM)
+		if k.PlenumRated != plenum {
+			t.Errorf("plenum %v: chose %s %s (plenum rated %v)", plenum, l.Medium, l.Construction, k.PlenumRated)
+		}
+	}
+}
