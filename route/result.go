@@ -4,7 +4,6 @@ import (
 	"context"
 	"errors"
 	"fmt"
-	"spanwright/geo"
 	"spanwright/geo/input"
 	"spanwright/media"
 	"spanwright/route/estimate"
@@ -81,29 +80,9 @@ func Solve(ctx context.Context, s *site.Site, p *plan.Plan) (*Result, error) {
 // done, the optimizer, the media choice and the estimate stop within a step and SolveWith
 // returns ctx's error and no result.
 func SolveWith(ctx context.Context, s *site.Site, p *plan.Plan, eng *media.Engine) (*Result, error) {
-	hub, err := s.Hub(p)
+	hub, links, model, err := prepare(s, p, eng)
 	if err != nil {
 		return nil, err
-	}
-	links, errs := s.Links(p, hub)
-	if err := ctx.Err(); err != nil {
-		return nil, err
-	}
-	errs = append(errs, p.CheckRates(eng.Catalog())...)
-	if un := s.UnreachableServed(hub, links); len(un) > 0 {
-		errs = append(errs, p.Problem("hub", input.Errorf(geo.ErrUnreachable, "%d buildings cannot reach the hub %q through the pathway network: %q", len(un), hub, un)))
-	}
-	model, err := routing.NewModel(eng, p.Design)
-	if err != nil {
-		errs = append(errs, err)
-	}
-	if len(errs) > 0 {
-		var l input.Problems
-		for _, e := range errs {
-			l.Add(e)
-		}
-		l.Sort()
-		return nil, l.Err()
 	}
 	if err := ctx.Err(); err != nil {
 		return nil, err
@@ -117,6 +96,9 @@ func SolveWith(ctx context.Context, s *site.Site, p *plan.Plan, eng *media.Engin
 	for _, w := range s.Net.Warnings {
 		r.Warnings = append(r.Warnings, w.File+": "+w.Feature+": "+w.Message)
 	}
+	if cut := s.UnreachableServed(hub, links); len(cut) > 0 {
+		r.cutOff(cut)
+	}
 	e, err := estimate.Build(ctx, estimate.Input{Site: s, Plan: p, Engine: eng, Legs: r.Legs, Fill: r.Fill, Opened: r.Opened})
 	if err != nil {
 		return nil, err
@@ -129,6 +111,38 @@ func SolveWith(ctx context.Context, s *site.Site, p *plan.Plan, eng *media.Engin
 	return r, nil
 }
 
+// Check runs every check of SolveWith that comes before routing — the hub, the links and
+// their buildings, the rates, the prices the plan needs — and returns their problems
+// together, as SolveWith would; nil when the plan can be routed.
+func Check(s *site.Site, p *plan.Plan, eng *media.Engine) error {
+	_, _, _, err := prepare(s, p, eng)
+	return err
+}
+
+// prepare resolves the plan's hub and links on the site and builds its cost model; every
+// problem comes back together as one error.
+func prepare(s *site.Site, p *plan.Plan, eng *media.Engine) (string, []site.Link, *routing.Model, error) {
+	hub, err := s.Hub(p)
+	if err != nil {
+		return "", nil, nil, err
+	}
+	links, errs := s.Links(p, hub)
+	errs = append(errs, p.CheckRates(eng.Catalog())...)
+	model, err := routing.NewModel(eng, p.Design)
+	if err != nil {
+		errs = append(errs, err)
+	}
+	if len(errs) > 0 {
+		var l input.Problems
+		for _, e := range errs {
+			l.Add(e)
+		}
+		l.Sort()
+		return "", nil, nil, l.Err()
+	}
+	return hub, links, model, nil
+}
+
 // Inputs lists the files the plan read, which outputs must never overwrite.
 func (r *Result) Inputs() []string {
 	in := []string{r.Plan.File}
@@ -139,4 +153,27 @@ func (r *Result) Inputs() []string {
 		}
 	}
 	return in
+}
+
+// cutOff gives every leg the optimizer could not route because a building at one of its ends
+// has no path to the hub the reason that names what to fix (site.Site.CutOff), in place of
+// the media's reasons, and warns once per cut-off building. The rest of the plan stands.
+func (r *Result) cutOff(buildings []string) {
+	why := make(map[string]string, len(buildings))
+	for _, b := range buildings {
+		why[b] = r.Site.CutOff(b, r.Hub)
+		r.Warnings = append(r.Warnings, why[b])
+	}
+	for i := range r.Legs {
+		l := &r.Legs[i]
+		if l.Feasible {
+			continue
+		}
+		for _, b := range []string{l.Link.To, l.Link.From} {
+			if w, ok := why[b]; ok {
+				l.Reason, l.Choice, l.Rejected = w, "", nil
+				break
+			}
+		}
+	}
 }

@@ -9,8 +9,7 @@ import (
 
 	"github.com/urfave/cli/v2"
 
-	"spanwright/geo"
-	"spanwright/geo/input"
+	"spanwright/route"
 	"spanwright/route/escape"
 	"spanwright/route/output"
 	"spanwright/route/plan"
@@ -70,12 +69,19 @@ func runCheck(ctx context.Context, args []string, maxBytes int64, opt output.Wri
 		_, err := st.Hub(p) // the plan's problem, at the hub's line
 		return err
 	}
-	if len(rep.Unreachable) > 0 {
-		err := input.Errorf(geo.ErrUnreachable, "%d buildings cannot reach the hub %s: %s", len(rep.Unreachable), escape.Terminal(rep.Hub), escape.TerminalList(rep.Unreachable))
-		if p != nil {
-			return p.Problem("hub", err)
+	if p != nil {
+		// Everything plan rejects before routing, check rejects too.
+		eng, err := plan.Engine(p)
+		if err != nil {
+			return err
 		}
-		return fmt.Errorf("%w: %w", errInvalid, err)
+		if err := route.Check(st, p, eng); err != nil {
+			return err
+		}
+	}
+	if len(rep.Unreachable) > 0 {
+		// As plan: the buildings cut off cannot be served (exit 3); the rest can be planned.
+		return fmt.Errorf("%w: %d buildings cannot reach the hub %s: %s", route.ErrInfeasible, len(rep.Unreachable), escape.Terminal(rep.Hub), escape.TerminalList(rep.Unreachable))
 	}
 	return nil
 }

@@ -309,7 +309,7 @@ func TestPayloadTerminal(t *testing.T) {
 		code int
 		want string // on stdout or stderr
 	}{
-		{[]string{"check", islandPlan}, exitInvalid, "cannot reach it: [ISLE<U+000A>" + forged + "]"},
+		{[]string{"check", islandPlan}, exitInfeasible, "cannot reach it: [ISLE<U+000A>" + forged + "]"},
 		{[]string{"check", plan}, exitOK, "hub         <U+001B>[31mRED: every building can reach it"},
 		{[]string{"plan", plan, "--out", filepath.Join(dir, "out")}, exitInfeasible, "  <U+001B>[31mRED-B<U+202E>evil<U+2066> diverse: "},
 		{[]string{"plan", plan, "--out", filepath.Join(dir, "out2"), "--prices", filepath.Join(dir, "none\x1b[2J.yaml")}, exitInvalid, "none<U+001B>[2J.yaml"},

@@ -3,6 +3,7 @@ package main
 import (
 	"bytes"
 	"context"
+	"encoding/csv"
 	"flag"
 	"os"
 	"path/filepath"
@@ -143,8 +144,8 @@ func TestBadInput(t *testing.T) {
 		{"unknown hub", []string{"plan", "testdata/plans/unknown_hub.yaml", "--out", "x"}, exitInvalid, []string{`unknown_hub.yaml:3:6: hub: want the id of a building, got "NOPE", which no building has`}},
 		{"unknown link buildings, all reported", []string{"plan", "testdata/plans/unknown_link.yaml", "--out", "x"}, exitInvalid,
 			[]string{`unknown_link.yaml:5:10: links[1].to: unknown building "GHOST"`, `unknown_link.yaml:6:12: links[2].from: unknown building "PHANTOM"`}},
-		{"unreachable building named", []string{"plan", "testdata/plans/island.yaml", "--out", "x"}, exitInvalid, []string{`island.yaml: hub: 1 buildings cannot reach the hub "HQ" through the pathway network: ["ISLE"]`}},
-		{"check names unreachable", []string{"check", "testdata/plans/island.yaml"}, exitInvalid, []string{"cannot reach the hub HQ: [ISLE]"}},
+		{"check names unreachable", []string{"check", "testdata/plans/island.yaml"}, exitInfeasible, []string{"cannot reach the hub HQ: [ISLE]",
+			"cut off: building ISLE is cut off from the hub HQ: the pathways that reach it (D2) join none that reaches the hub"}},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
@@ -162,6 +163,40 @@ func TestBadInput(t *testing.T) {
 	if _, err := os.Stat("x"); err == nil {
 		t.Errorf("a failed plan created its output folder")
 		os.RemoveAll("x")
+	}
+}
+
+// TestCutOffBuilding: a building no pathway joins to the hub's network does not stop the
+// plan (issue 13): its leg is infeasible with a reason that names the pathway left apart,
+// every other link is planned and written, and the exit status is 3, as for any infeasible leg.
+func TestCutOffBuilding(t *testing.T) {
+	out := filepath.Join(t.TempDir(), "out")
+	stdout, msg, code := run(t, "plan", "testdata/plans/island.yaml", "--out", out)
+	if code != exitInfeasible {
+		t.Fatalf("exit %d, want %d (%s)", code, exitInfeasible, msg)
+	}
+	const why = "building ISLE is cut off from the hub HQ: the pathways that reach it (D2) join none that reaches the hub"
+	if !strings.Contains(stdout+msg, why) {
+		t.Errorf("output lacks %q:\n%s%s", why, stdout, msg)
+	}
+	links, err := os.ReadFile(filepath.Join(out, "links.csv"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	rows, err := csv.NewReader(bytes.NewReader(links)).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	col := map[string]int{}
+	for i, h := range rows[0] {
+		col[h] = i
+	}
+	got := map[string]string{}
+	for _, r := range rows[1:] {
+		got[r[col["link"]]] = r[col["feasible"]] + " " + r[col["reason"]]
+	}
+	if !strings.HasPrefix(got["HQ-NEAR"], "true ") || got["HQ-ISLE"] != "false "+why {
+		t.Errorf("links.csv: %q", got)
 	}
 }
 

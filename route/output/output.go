@@ -503,6 +503,9 @@ func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
 		fmt.Fprintf(w, "hub         %s: every building can reach it\n", t(r.Hub))
 	default:
 		fmt.Fprintf(w, "hub         %s: %d buildings cannot reach it: %s\n", t(r.Hub), len(r.Unreachable), escape.TerminalList(r.Unreachable))
+		for _, why := range r.CutOff {
+			fmt.Fprintf(w, "  cut off: %s\n", t(why))
+		}
 	}
 	fmt.Fprintf(w, "warnings    %d\n", len(r.Warnings))
 	for _, m := range r.Warnings {

@@ -17,6 +17,7 @@ type CheckReport struct {
 	Components  int      // connected components of the pathway network that hold a building
 	Hub         string   // "" when none could be resolved
 	Unreachable []string // buildings with no path to the hub
+	CutOff      []string // for each of Unreachable, in its order, why (Site.CutOff)
 	Warnings    []string
 }
 
@@ -80,6 +81,9 @@ func (s *Site) Check(hub string) CheckReport {
 	if _, ok := s.building[hub]; ok {
 		r.Hub = hub
 		r.Unreachable = s.Unreachable(hub)
+		for _, b := range r.Unreachable {
+			r.CutOff = append(r.CutOff, s.CutOff(b, hub))
+		}
 	}
 	for _, w := range s.Net.Warnings {
 		r.Warnings = append(r.Warnings, w.File+": "+w.Feature+": "+w.Message)
