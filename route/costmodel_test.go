@@ -271,7 +271,7 @@ func problemOf(t *testing.T, r *route.Result) (*optimize.Problem, []site.Link) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	links, errs := r.Site.Links(r.Plan, hub)
+	links, _, errs := r.Site.Links(r.Plan, hub)
 	if len(errs) > 0 {
 		t.Fatal(errs)
 	}

@@ -14,10 +14,13 @@ import (
 
 // Result is a planned scenario: its links, their legs, and what was noticed on the way.
 type Result struct {
-	Plan     *plan.Plan
-	Site     *site.Site
-	Hub      string
-	Links    []site.Link
+	Plan  *plan.Plan
+	Site  *site.Site
+	Hub   string
+	Links []site.Link
+	// Notes say what of the plan's entries was left out, and why: a link entry for a
+	// building that is this plan's hub (as a sweep's scenario over the hub makes it).
+	Notes    []string
 	Legs     []routing.Leg // the legs of every link in link order; each points into Links
 	Warnings []string
 
@@ -80,19 +83,20 @@ func Solve(ctx context.Context, s *site.Site, p *plan.Plan) (*Result, error) {
 // done, the optimizer, the media choice and the estimate stop within a step and SolveWith
 // returns ctx's error and no result.
 func SolveWith(ctx context.Context, s *site.Site, p *plan.Plan, eng *media.Engine) (*Result, error) {
-	hub, links, model, err := prepare(s, p, eng)
+	pr, err := prepare(s, p, eng)
 	if err != nil {
 		return nil, err
 	}
+	hub, links := pr.hub, pr.links
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
-	rt, err := routing.Solve(ctx, s, model, links)
+	rt, err := routing.Solve(ctx, s, pr.model, links)
 	if err != nil {
 		return nil, err
 	}
 	r := &Result{Plan: p, Site: s, Hub: hub, Links: links, Legs: rt.Legs, Currency: eng.PriceBook().Currency, Engine: eng,
-		Opened: rt.Opened, Fill: rt.Fill, ObjectiveCents: rt.ObjectiveCents}
+		Opened: rt.Opened, Fill: rt.Fill, ObjectiveCents: rt.ObjectiveCents, Notes: pr.notes}
 	for _, w := range s.Net.Warnings {
 		r.Warnings = append(r.Warnings, w.File+": "+w.Feature+": "+w.Message)
 	}
@@ -115,18 +119,26 @@ func SolveWith(ctx context.Context, s *site.Site, p *plan.Plan, eng *media.Engin
 // their buildings, the rates, the prices the plan needs — and returns their problems
 // together, as SolveWith would; nil when the plan can be routed.
 func Check(s *site.Site, p *plan.Plan, eng *media.Engine) error {
-	_, _, _, err := prepare(s, p, eng)
+	_, err := prepare(s, p, eng)
 	return err
+}
+
+// prepared is a plan resolved on a site, ready to route.
+type prepared struct {
+	hub   string
+	links []site.Link
+	notes []string // what was dropped of the plan's entries, and why
+	model *routing.Model
 }
 
 // prepare resolves the plan's hub and links on the site and builds its cost model; every
 // problem comes back together as one error.
-func prepare(s *site.Site, p *plan.Plan, eng *media.Engine) (string, []site.Link, *routing.Model, error) {
+func prepare(s *site.Site, p *plan.Plan, eng *media.Engine) (prepared, error) {
 	hub, err := s.Hub(p)
 	if err != nil {
-		return "", nil, nil, err
+		return prepared{}, err
 	}
-	links, errs := s.Links(p, hub)
+	links, notes, errs := s.Links(p, hub)
 	errs = append(errs, p.CheckRates(eng.Catalog())...)
 	model, err := routing.NewModel(eng, p.Design)
 	if err != nil {
@@ -138,9 +150,9 @@ func prepare(s *site.Site, p *plan.Plan, eng *media.Engine) (string, []site.Link
 			l.Add(e)
 		}
 		l.Sort()
-		return "", nil, nil, l.Err()
+		return prepared{}, l.Err()
 	}
-	return hub, links, model, nil
+	return prepared{hub: hub, links: links, notes: notes, model: model}, nil
 }
 
 // Inputs lists the files the plan read, which outputs must never overwrite.

@@ -56,7 +56,7 @@ func TestSavingOverIndependentRouting(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			links, errs := s.Links(p, hub)
+			links, _, errs := s.Links(p, hub)
 			if len(errs) > 0 {
 				t.Fatal(errs)
 			}

@@ -264,6 +264,8 @@ type Summary struct {
 	// duct fill, bends) and budget.
 	WarningCounts map[string]int `json:"warning_counts"`
 	Warnings      []string       `json:"warnings"`
+	// Notes say what of the plan's entries was left out, and why (route.Result.Notes).
+	Notes []string `json:"notes,omitempty"`
 }
 
 // CostDriver is one of the largest lines of the bill of materials.
@@ -285,7 +287,7 @@ func newWorkM(e *estimate.Estimate) float64 {
 // Summarize digests the result.
 func Summarize(r *route.Result) Summary {
 	s := Summary{Scenario: r.Plan.Name, Hub: r.Hub, Buildings: len(r.Site.Campus.Buildings),
-		Links: len(r.Links), Legs: len(r.Legs), Warnings: append([]string{}, r.Warnings...),
+		Links: len(r.Links), Legs: len(r.Legs), Warnings: append([]string{}, r.Warnings...), Notes: r.Notes,
 		MediaMix: map[string]int{}, Currency: r.Currency, NewTrenchM: round1(newWorkM(r.Estimate)),
 		BudgetCents: int64(r.Plan.Budget)}
 	feasibleLegs := map[string]int{}
@@ -376,6 +378,9 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 	}
 	t := escape.Terminal // ids and names from the input, each within a line
 	fmt.Fprintf(w, "plan %q: hub %s, %d links, %d legs, %s of route\n", s.Scenario, t(s.Hub), s.Links, s.Legs, length(s.TotalRouteM))
+	for _, n := range s.Notes {
+		fmt.Fprintf(w, "note: %s\n", t(n))
+	}
 	if s.Infeasible > 0 {
 		fmt.Fprintf(w, "%d legs infeasible:\n", s.Infeasible)
 		for _, l := range r.Legs {

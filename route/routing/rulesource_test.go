@@ -43,7 +43,7 @@ func excluded(t *testing.T, rules *media.Rules) map[string]bool {
 		t.Fatal(err)
 	}
 	hub, _ := s.Hub(p)
-	links, errs := s.Links(p, hub)
+	links, _, errs := s.Links(p, hub)
 	if len(errs) > 0 {
 		t.Fatal(errs)
 	}

@@ -27,8 +27,9 @@ type Link struct {
 // hierarchical star (each ic to the hub, each served building to its nearest cross-connect
 // by network distance), then the plan's entries, which replace the default link of the
 // building they name or add a link from another building. It returns every problem at once.
-func (s *Site) Links(p *plan.Plan, hub string) ([]Link, []error) {
+func (s *Site) Links(p *plan.Plan, hub string) ([]Link, []string, []error) {
 	var errs []error
+	var notes []string
 	var spec int // the entry of the plan's links list being resolved
 	bad := func(key, format string, args ...any) {
 		errs = append(errs, p.Problem(fmt.Sprintf("links[%d].%s", spec, key), input.Errorf(input.ErrBadValue, format, args...)))
@@ -88,7 +89,9 @@ func (s *Site) Links(p *plan.Plan, hub string) ([]Link, []error) {
 			}
 		}
 		if ls.To == hub && (ls.From == "" || ls.From == hub) {
-			bad("to", "%q is the hub; a link needs two different buildings", ls.To)
+			// The entry is about the building's own link to its cross-connect, and the
+			// building is the hub (a sweep's scenario may make it so): there is no such link.
+			notes = append(notes, fmt.Sprintf("links[%d] (to %s) dropped: %s is the hub of this plan", n, ls.To, ls.To))
 			continue
 		}
 		if ls.From == ls.To {
@@ -152,5 +155,5 @@ func (s *Site) Links(p *plan.Plan, hub string) ([]Link, []error) {
 		out = append(out, l)
 	}
 	sort.SliceStable(out, func(i, j int) bool { return out[i].ID < out[j].ID })
-	return out, errs
+	return out, notes, errs
 }

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -241,6 +242,7 @@ var fixedColumns = []column{
 		}},
 	intCol("warnings", "warnings", func(r *Row) int { return r.Warnings }),
 	textCol("error", "error", func(j judged) string { return oneLine(j.Error) }),
+	textCol("note", "note", func(j judged) string { return j.Note }),
 }
 
 func oneLine(s string) string { return strings.ReplaceAll(strings.TrimSpace(s), "\n", "; ") }
@@ -422,8 +424,8 @@ func compareMD(js []judged, keys []string, cur string) []byte {
 	}
 	var cols []column
 	for _, c := range fixedColumns {
-		if c.csv == "error" || c.csv == "currency" {
-			continue // failures are listed below the table; the currency is said above
+		if c.csv == "error" || c.csv == "currency" || c.csv == "note" {
+			continue // failures and notes are listed below the table; the currency is said above
 		}
 		cols = append(cols, c)
 		h := c.human
@@ -448,6 +450,14 @@ func compareMD(js []judged, keys []string, cur string) []byte {
 			rec = append(rec, escape.Markdown(c.text(j)))
 		}
 		mdRow(&b, rec)
+	}
+	if noted := slices.ContainsFunc(js, func(j judged) bool { return j.Note != "" }); noted {
+		fmt.Fprintf(&b, "\n## Notes\n\n")
+		for _, j := range js {
+			if j.Note != "" {
+				fmt.Fprintf(&b, "- %s: %s\n", escape.MarkdownCode(j.ID), escape.Markdown(j.Note))
+			}
+		}
 	}
 	if failed > 0 {
 		fmt.Fprintf(&b, "\n## Failed scenarios\n\n")

@@ -138,7 +138,7 @@ func TestCompareMarkdown(t *testing.T) {
 			t.Errorf("compare.md lacks %q:\n%s", want, md)
 		}
 	}
-	if !strings.Contains(csvText, "0,a-1,,A|B,ok,EUR,1.50,1.00,0.50,0,1.23,0.0,0,0,os2:2,1,yes,0,\n") {
+	if !strings.Contains(csvText, "0,a-1,,A|B,ok,EUR,1.50,1.00,0.50,0,1.23,0.0,0,0,os2:2,1,yes,0,,\n") {
 		t.Errorf("compare.csv:\n%s", csvText)
 	}
 }
@@ -207,7 +207,7 @@ func TestComparePayloads(t *testing.T) {
 			if rec[1] != p.csv || rec[2] != p.csv || rec[3] != p.csv {
 				t.Errorf("%s: compare.csv id, case, hub: got %q, want %q each", p.name, rec[1:4], p.csv)
 			}
-			if got := rec[len(rec)-9]; got != "-1.50" {
+			if got := rec[len(rec)-10]; got != "-1.50" {
 				t.Errorf("%s: compare.csv worst margin: got %q, want the number -1.50", p.name, got)
 			}
 			line := table[i+2]

@@ -45,6 +45,9 @@ type Row struct {
 	DiverseMissing  int      `json:"diverse_missing"` // links that asked for a diverse route and lack one
 	MediaMix        string   `json:"media_mix"`       // feasible legs per medium: "om4:3 os2:5", by medium
 	Warnings        int      `json:"warnings"`
+	// Note says what of the base plan the scenario left out, and why (output.Summary.Notes,
+	// joined by "; "), e.g. a link entry for the building the scenario makes the hub.
+	Note string `json:"note,omitempty"`
 }
 
 func newRow(sc Scenario) Row {
@@ -70,6 +73,7 @@ func (r *Row) fill(s output.Summary) {
 	sort.Strings(media)
 	r.MediaMix = strings.Join(media, " ")
 	r.Warnings = s.WarningCount
+	r.Note = strings.Join(s.Notes, "; ")
 	r.Status = StatusOK
 	if s.Infeasible > 0 {
 		r.Status = StatusInfeasible
