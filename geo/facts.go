@@ -24,6 +24,10 @@ type Meeting struct {
 	// counts twice.
 	Degree    int
 	Structure bool // the junction is a maintenance hole, handhole or pull box
+	// Buildings lists, sorted, the buildings the junction is an entrance of without a counted
+	// lateral (a pathway end on the footprint, or a declared entrance on a pathway): there the
+	// cable is in the building.
+	Buildings []string
 }
 
 // Pass is how a cable passes from one span to another at a junction.
@@ -38,11 +42,14 @@ type Pass string
 // meeting alone (a duct drawn in pieces), and the pieces of one pathway split where another
 // joins it, are the same duct carried on. (Common practice, no published source; TIA-569's
 // rule of a pull point after at most two 90° bends of conduit is the related published rule,
-// from memory.)
+// from memory.) A turn at a building's entrance (Meeting.Buildings) is made inside the
+// building, where the cable leaves its duct anyway: it needs no structure, but it passes
+// through the building, which Transit says whether routes may do.
 const (
 	PassStraight       Pass = "straight"        // degree 2, or both spans are pieces of one pathway
 	PassAtStructure    Pass = "structure"       // a turn from one pathway into another at a structure
-	PassNeedsStructure Pass = "needs-structure" // a turn with three or more spans and no structure
+	PassInBuilding     Pass = "building"        // a turn at an entrance, inside the building
+	PassNeedsStructure Pass = "needs-structure" // a turn with three or more spans, no structure and no building
 )
 
 // Transit says whether routes may pass through a building, in at one of its entrances and
@@ -106,13 +113,13 @@ func (n *Network) MeetingAt(junction string) (Meeting, bool) {
 	if !ok {
 		return Meeting{}, false
 	}
-	return meetingOf(j, n.Spans), true
+	return meetingOf(j, n), true
 }
 
-// meetingOf gathers from spans (sorted by ID) what meets at junction j.
-func meetingOf(j Junction, spans []Span) Meeting {
+// meetingOf gathers from the spans and entrances of n what meets at junction j.
+func meetingOf(j Junction, n *Network) Meeting {
 	m := Meeting{Junction: j.ID, Structure: j.Kind == JunctionStructure}
-	for _, s := range spans {
+	for _, s := range n.Spans {
 		if s.From != j.ID && s.To != j.ID {
 			continue
 		}
@@ -125,6 +132,12 @@ func meetingOf(j Junction, spans []Span) Meeting {
 			m.Degree++
 		}
 	}
+	for _, e := range n.Entrances {
+		if e.Junction == j.ID && (e.Via == ViaFootprint || (e.Via == ViaEntrance && e.LateralM == 0)) && !contains(m.Buildings, e.Building) {
+			m.Buildings = append(m.Buildings, e.Building)
+		}
+	}
+	sort.Strings(m.Buildings)
 	return m
 }
 
@@ -151,6 +164,8 @@ func (n *Network) PassAt(junction, from, to string) (p Pass, ok bool) {
 		return PassStraight, true
 	case m.Structure:
 		return PassAtStructure, true
+	case len(m.Buildings) > 0:
+		return PassInBuilding, true
 	}
 	return PassNeedsStructure, true
 }
@@ -189,13 +204,23 @@ func (b *builder) facts(n *Network) {
 			}
 		}
 	}
+	for _, e := range n.Entrances { // sorted by building
+		if e.Via == ViaFootprint || (e.Via == ViaEntrance && e.LateralM == 0) {
+			m := &n.Meetings[at[e.Junction]]
+			if k := len(m.Buildings); k == 0 || m.Buildings[k-1] != e.Building {
+				m.Buildings = append(m.Buildings, e.Building)
+			}
+		}
+	}
 	b.transit(n)
 	b.dangling(n)
 }
 
 // transit finds, for every building, the pathways drawn inside it: both ends of every line in
-// the footprint (or within SnapM of its boundary), or more than half the pathway's length
-// inside it (projected).
+// the footprint (or within SnapM of its boundary), or, for a tunnel or tray, more than half
+// the pathway's length inside it (projected). A duct with more than half its length inside is
+// not enough: service ducts are often drawn through the wall to the telecom room (half of the
+// demo campus's are, one end outside), and a building is not a through-route for that.
 func (b *builder) transit(n *Network) {
 	partsOf := make([][2]int, len(b.c.Pathways)) // first and past-last part of each pathway
 	for pi := range partsOf {
@@ -252,7 +277,11 @@ func (b *builder) inside(f *footprint, r [2]int) bool {
 		}
 		all += p.cum[len(p.cum)-1]
 	}
-	return ends || in > all/2
+	if ends {
+		return true
+	}
+	typ := b.c.Pathways[b.parts[r[0]].pw].Type
+	return (typ == TypeTunnel || typ == TypeTray) && in > all/2
 }
 
 // insideLen is the projected length of segment ab inside footprint f.
