@@ -1,9 +1,12 @@
 package geo
 
 import (
+	"cmp"
 	"fmt"
+	"slices"
 	"sort"
 	"strconv"
+	"strings"
 )
 
 // EntrySep joins a building's ID and a number in the ID of an entrance that is not a declared
@@ -41,7 +44,6 @@ func (b *builder) entrances(n *Network) {
 		root int
 	}
 	for bi, bl := range b.c.Buildings {
-		byJunction := make(map[string]int)
 		var list []found
 		for _, d := range b.doors[bi] {
 			r := b.find(d.target)
@@ -64,14 +66,13 @@ func (b *builder) entrances(n *Network) {
 					bl.ID, id, fmtM(e.LateralM), fmtM(b.maxLat))})
 				continue
 			}
-			if k, seen := byJunction[id]; seen {
+			if k := slices.IndexFunc(list, func(o found) bool { return o.Junction == id }); k >= 0 { // a building has few
 				o := list[k]
 				if entryRank[e.Via] < entryRank[o.Via] || (e.Via == o.Via && e.ID < o.ID) {
 					list[k] = e
 				}
 				continue
 			}
-			byJunction[id] = len(list)
 			list = append(list, e)
 		}
 		var unnamed []int
@@ -80,13 +81,10 @@ func (b *builder) entrances(n *Network) {
 				unnamed = append(unnamed, i)
 			}
 		}
-		sort.Slice(unnamed, func(i, j int) bool {
-			x, y := list[unnamed[i]], list[unnamed[j]]
+		slices.SortFunc(unnamed, func(i, j int) int {
+			x, y := list[i], list[j]
 			px, py := b.rep[x.root], b.rep[y.root]
-			if px != py {
-				return lessLL(px, py)
-			}
-			return x.Junction < y.Junction
+			return cmp.Or(cmp.Compare(px[0], py[0]), cmp.Compare(px[1], py[1]), strings.Compare(x.Junction, y.Junction))
 		})
 		k := 0
 		for _, i := range unnamed {

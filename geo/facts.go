@@ -194,10 +194,21 @@ func (b *builder) facts(n *Network) {
 		n.Meetings[i] = Meeting{Junction: j.ID, Structure: j.Kind == JunctionStructure}
 		at[j.ID] = i
 	}
+	// Two passes, so that every meeting's lists share two backing arrays.
+	for _, s := range n.Spans {
+		n.Meetings[at[s.From]].Degree++
+		n.Meetings[at[s.To]].Degree++
+	}
+	spans, pathways := make([]string, 2*len(n.Spans)), make([]string, 2*len(n.Spans))
+	off := 0
+	for i := range n.Meetings {
+		m := &n.Meetings[i]
+		m.Spans, m.Pathways = spans[off:off:off+m.Degree], pathways[off:off:off+m.Degree]
+		off += m.Degree
+	}
 	for _, s := range n.Spans {
 		for _, end := range [2]string{s.From, s.To} {
 			m := &n.Meetings[at[end]]
-			m.Degree++
 			if k := len(m.Spans); k == 0 || m.Spans[k-1] != s.ID {
 				m.Spans = append(m.Spans, s.ID)
 				m.Pathways = append(m.Pathways, s.PathwayID)
