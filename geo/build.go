@@ -46,7 +46,16 @@ const minCellM = 25.0
 //     which becomes a junction (a vertex within SnapM of it is used instead, so short spans are
 //     not cut off); the lateral runs from the nearest point of the footprint boundary.
 //
-// A building with none of these is an ErrUnreachable *input.Problem. All problems come back
+// A building with none of these is an ErrUnreachable *input.Problem.
+//
+// Beside the Access, every way into a building is one of its Entrances: each declared
+// entrance on a pathway or within MaxLateralM of one (each off the pathways gets its own
+// counted lateral, and the place where it joins becomes a junction), and each pathway end on
+// the footprint; the lateral of 3 only when there is neither. A declared entrance beyond
+// MaxLateralM of every pathway is a Warning when another entrance of its building reaches.
+// Build also lists what meets at each junction (Meetings), the pathways inside each building
+// and whether routes may pass through it (Transit), warns about every pathway end that joins
+// nothing, and lists those ends' near misses (NearMisses). All problems come back
 // together as an *input.Problems. Snapping and intersection tests use an equirectangular projection
 // around the campus's centre; every length is ellipsoidal (DistanceM). The result depends only
 // on the input, byte for byte; junction numbers (JunctionPrefix + zero-padded number) follow
@@ -880,12 +889,7 @@ func (b *builder) number() {
 	for _, pc := range b.pieces {
 		used[pc.from], used[pc.to] = true, true
 	}
-	for _, pl := range b.plans {
-		if pl.target >= 0 && pl.via != "" && pl.via != ViaFootprint {
-			used[b.find(pl.target)] = true
-		}
-	}
-	for _, ds := range b.doors {
+	for _, ds := range b.doors { // every plan's target is a door
 		for _, d := range ds {
 			if d.via != ViaFootprint {
 				used[b.find(d.target)] = true

@@ -462,6 +462,7 @@ func TestBuildErrors(t *testing.T) {
 		{"limit option", Campus{Buildings: []Building{box("B", 0, 30, 10)}, Pathways: []Pathway{pw("T", ml(0, 0, 100, 0))}},
 			Options{MaxLateralM: 5}, `no pathway within 5 m of the footprint`},
 		{"bad options", Campus{}, Options{SnapM: -1}, "bad options"},
+		{"bad near-miss option", Campus{}, Options{NearMissM: math.Inf(1)}, "NearMissM +Inf"},
 		{"hand-built short line", Campus{Pathways: []Pathway{pw("T", orb.LineString{at(0, 0), at(0, 0)})}},
 			Options{}, `feature #0 "T": geometry: want a line of at least two distinct positions`},
 		{"hand-built duplicate", Campus{Pathways: []Pathway{pw("T", ml(0, 0, 1, 1)), pw("T", ml(0, 0, 1, 1))}},
