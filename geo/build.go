@@ -46,7 +46,16 @@ const minCellM = 25.0
 //     which becomes a junction (a vertex within SnapM of it is used instead, so short spans are
 //     not cut off); the lateral runs from the nearest point of the footprint boundary.
 //
-// A building with none of these is an ErrUnreachable *input.Problem. All problems come back
+// A building with none of these is an ErrUnreachable *input.Problem.
+//
+// Beside the Access, every way into a building is one of its Entrances: each declared
+// entrance on a pathway or within MaxLateralM of one (each off the pathways gets its own
+// counted lateral, and the place where it joins becomes a junction), and each pathway end on
+// the footprint; the lateral of 3 only when there is neither. A declared entrance beyond
+// MaxLateralM of every pathway is a Warning when another entrance of its building reaches.
+// Build also lists what meets at each junction (Meetings), the pathways inside each building
+// and whether routes may pass through it (Transit), warns about every pathway end that joins
+// nothing, and lists those ends' near misses (NearMisses). All problems come back
 // together as an *input.Problems. Snapping and intersection tests use an equirectangular projection
 // around the campus's centre; every length is ellipsoidal (DistanceM). The result depends only
 // on the input, byte for byte; junction numbers (JunctionPrefix + zero-padded number) follow
@@ -63,17 +72,21 @@ func BuildContext(ctx context.Context, c *Campus, opt Options) (*Network, error)
 	if c == nil {
 		return nil, fmt.Errorf("geo: build: nil campus")
 	}
-	snap, maxLat := opt.SnapM, opt.MaxLateralM
+	snap, maxLat, nearMiss := opt.SnapM, opt.MaxLateralM, opt.NearMissM
 	if snap == 0 {
 		snap = DefaultSnapM
 	}
 	if maxLat == 0 {
 		maxLat = DefaultMaxLateralM
 	}
-	if !(snap > 0) || math.IsInf(snap, 0) || !(maxLat >= 0) || math.IsInf(maxLat, 0) {
-		return nil, fmt.Errorf("geo: build: bad options: SnapM %v and MaxLateralM %v must be finite and > 0", opt.SnapM, opt.MaxLateralM)
+	if nearMiss == 0 {
+		nearMiss = DefaultNearMissM
 	}
-	b := &builder{c: c, snap: snap, maxLat: maxLat}
+	if !(snap > 0) || math.IsInf(snap, 0) || !(maxLat >= 0) || math.IsInf(maxLat, 0) || !(nearMiss > 0) || math.IsInf(nearMiss, 0) {
+		return nil, fmt.Errorf("geo: build: bad options: SnapM %v, MaxLateralM %v and NearMissM %v must be finite and > 0",
+			opt.SnapM, opt.MaxLateralM, opt.NearMissM)
+	}
+	b := &builder{c: c, snap: snap, maxLat: maxLat, nearMiss: nearMiss}
 	if b.validate(); b.errs.Len() > 0 {
 		return nil, &b.errs
 	}
@@ -85,7 +98,7 @@ func BuildContext(ctx context.Context, c *Campus, opt Options) (*Network, error)
 		return nil, &b.errs
 	}
 	n := &Network{}
-	steps = []func(){b.cut, b.number, func() { b.spans(n) }, func() { b.junctions(n) }, func() { b.access(n) }}
+	steps = []func(){b.cut, b.number, func() { b.spans(n) }, func() { b.junctions(n) }, func() { b.access(n) }, func() { b.entrances(n) }, func() { b.facts(n) }}
 	if err := runSteps(ctx, steps); err != nil {
 		return nil, err
 	}
@@ -175,6 +188,17 @@ type accessPlan struct {
 	lateral  bool
 }
 
+// door is one way into a building found while planning access: a declared entrance (on a
+// pathway, or joined to one by a counted lateral from from), a pathway end on the footprint,
+// or the counted lateral of a building with neither.
+type door struct {
+	via      string
+	target   int // member
+	entrance int // entrance index for ViaEntrance, else -1
+	from     orb.Point
+	lateral  bool
+}
+
 type warnRec struct {
 	src Source
 	id  string
@@ -184,6 +208,7 @@ type warnRec struct {
 type builder struct {
 	c            *Campus
 	snap, maxLat float64
+	nearMiss     float64
 	errs         input.Problems
 	warns        []warnRec
 
@@ -201,6 +226,7 @@ type builder struct {
 	entOn   []bool
 	feet    []footprint
 	plans   []accessPlan // per building, input order
+	doors   [][]door     // per building, input order: every way in
 
 	entries [][]entry // per part, kept junction positions
 	pieces  []piece
@@ -572,7 +598,16 @@ func (b *builder) target(seg int, t float64) int {
 	case d1 <= b.snap:
 		m = p.v0 + sr.i + 1
 	default:
-		m = b.split(sr.part, sr.i, t)
+		m = -1
+		for _, o := range b.splits[sr.part] {
+			if mo := b.mem[o]; mo.force && mo.seg == sr.i && mo.t == t {
+				m = o // another entrance's lateral joins the same place
+				break
+			}
+		}
+		if m < 0 {
+			m = b.split(sr.part, sr.i, t)
+		}
 	}
 	b.mem[m].force = true
 	return m
@@ -585,35 +620,29 @@ func (b *builder) planAccess() {
 		byBuilding[e.Building] = append(byBuilding[e.Building], ei)
 	}
 	b.plans = make([]accessPlan, len(c.Buildings))
+	b.doors = make([][]door, len(c.Buildings))
 	for bi, bl := range c.Buildings {
+		f := &b.feet[bi]
+		var cands []int
+		if !f.empty() {
+			cands = b.footprintEnds(f)
+		}
+		for _, m := range cands {
+			b.doors[bi] = append(b.doors[bi], door{via: ViaFootprint, target: m, entrance: -1})
+		}
 		if ents := byBuilding[bl.ID]; len(ents) > 0 {
-			b.plans[bi] = b.planEntrance(bl, ents)
+			b.plans[bi] = b.planEntrance(bi, bl, ents)
 			continue
 		}
-		f := &b.feet[bi]
 		if f.empty() {
 			b.add(bl.Source, bl.ID, "", problemf(ErrUnreachable, "no footprint and no entrance"))
 			continue
-		}
-		var cands []int
-		lo, hi := f.lo.sub(vec{b.snap, b.snap}), f.hi.add(vec{b.snap, b.snap})
-		b.buf = b.vtxGrid.query(lo, hi, b.buf)
-		for _, v := range b.buf {
-			m := b.mem[v]
-			if m.seg != 0 && m.seg != len(b.parts[m.part].xy)-1 {
-				continue
-			}
-			if f.contains(m.xy) {
-				cands = append(cands, int(v))
-			} else if _, d := f.nearestBoundary(m.xy); d <= b.snap {
-				cands = append(cands, int(v))
-			}
 		}
 		if len(cands) > 0 {
 			b.plans[bi] = accessPlan{via: ViaFootprint, target: -1, cands: cands}
 			continue
 		}
-		lo, hi = f.lo.sub(vec{b.maxLat, b.maxLat}), f.hi.add(vec{b.maxLat, b.maxLat})
+		lo, hi := f.lo.sub(vec{b.maxLat, b.maxLat}), f.hi.add(vec{b.maxLat, b.maxLat})
 		b.buf = b.segGrid.query(lo, hi, b.buf)
 		best := b.lateralPlace(f)
 		if best.seg < 0 || best.d > b.maxLat {
@@ -621,7 +650,28 @@ func (b *builder) planAccess() {
 			continue
 		}
 		b.plans[bi] = accessPlan{via: ViaLateral, target: b.target(best.seg, best.t)}
+		b.doors[bi] = append(b.doors[bi], door{via: ViaLateral, target: b.plans[bi].target, entrance: -1})
 	}
+}
+
+// footprintEnds lists the pathway ends inside footprint f or within SnapM of its boundary, as
+// members.
+func (b *builder) footprintEnds(f *footprint) []int {
+	var cands []int
+	lo, hi := f.lo.sub(vec{b.snap, b.snap}), f.hi.add(vec{b.snap, b.snap})
+	b.buf = b.vtxGrid.query(lo, hi, b.buf)
+	for _, v := range b.buf {
+		m := b.mem[v]
+		if m.seg != 0 && m.seg != len(b.parts[m.part].xy)-1 {
+			continue
+		}
+		if f.contains(m.xy) {
+			cands = append(cands, int(v))
+		} else if _, d := f.nearestBoundary(m.xy); d <= b.snap {
+			cands = append(cands, int(v))
+		}
+	}
+	return cands
 }
 
 // lateralPlace is where a counted lateral from footprint f joins the pathways among b.buf
@@ -663,29 +713,46 @@ func (b *builder) lateralPlace(f *footprint) place {
 	return best
 }
 
-func (b *builder) planEntrance(bl Building, ents []int) accessPlan {
+// planEntrance makes every declared entrance of the building a door (one off the pathways
+// joins the nearest place on one, within MaxLateralM, by a counted lateral) and chooses the
+// Access among them: one on a pathway (lowest junction ID), else the shortest lateral (to the
+// millimetre, then the lowest ID).
+func (b *builder) planEntrance(bi int, bl Building, ents []int) accessPlan {
 	on := -1
 	for _, ei := range ents {
 		if b.entOn[ei] && (on < 0 || b.entIDs[ei] < b.entIDs[on]) {
 			on = ei
 		}
 	}
+	best, bestE, bestM := math.Inf(1), -1, -1
+	for _, ei := range ents {
+		if b.entOn[ei] {
+			b.doors[bi] = append(b.doors[bi], door{via: ViaEntrance, target: b.entMem[ei], entrance: ei})
+			continue
+		}
+		seg, t, d, ok := b.nearest(b.mem[b.entMem[ei]].xy, b.maxLat)
+		if !ok {
+			e := b.c.Entrances[ei]
+			b.warns = append(b.warns, warnRec{e.Source, b.entIDs[ei], fmt.Sprintf(
+				"entrance %q of building %q is not within %s m (MaxLateralM) of any pathway; it is not an entrance",
+				b.entIDs[ei], bl.ID, fmtM(b.maxLat))})
+			continue
+		}
+		m := b.target(seg, t)
+		b.doors[bi] = append(b.doors[bi], door{via: ViaEntrance, target: m, entrance: ei, from: b.c.Entrances[ei].Point, lateral: true})
+		if bestE < 0 || math.Round(d*1000) < math.Round(best*1000) ||
+			(math.Round(d*1000) == math.Round(best*1000) && b.entIDs[ei] < b.entIDs[bestE]) {
+			best, bestE, bestM = d, ei, m
+		}
+	}
 	if on >= 0 {
 		return accessPlan{via: ViaEntrance, target: b.entMem[on], entrance: on}
-	}
-	best, bestE, bestSeg, bestT := math.Inf(1), -1, 0, 0.0
-	for _, ei := range ents {
-		seg, t, d, ok := b.nearest(b.mem[b.entMem[ei]].xy, b.maxLat)
-		if ok && (bestE < 0 || math.Round(d*1000) < math.Round(best*1000) ||
-			(math.Round(d*1000) == math.Round(best*1000) && b.entIDs[ei] < b.entIDs[bestE])) {
-			best, bestE, bestSeg, bestT = d, ei, seg, t
-		}
 	}
 	if bestE < 0 {
 		b.add(bl.Source, bl.ID, "", problemf(ErrUnreachable, "no pathway within %s m of its entrance (MaxLateralM)", fmtM(b.maxLat)))
 		return accessPlan{}
 	}
-	return accessPlan{via: ViaEntrance, target: b.target(bestSeg, bestT), entrance: bestE,
+	return accessPlan{via: ViaEntrance, target: bestM, entrance: bestE,
 		from: b.c.Entrances[bestE].Point, lateral: true}
 }
 
@@ -822,9 +889,11 @@ func (b *builder) number() {
 	for _, pc := range b.pieces {
 		used[pc.from], used[pc.to] = true, true
 	}
-	for _, pl := range b.plans {
-		if pl.target >= 0 && pl.via != "" && pl.via != ViaFootprint {
-			used[b.find(pl.target)] = true
+	for _, ds := range b.doors { // every plan's target is a door
+		for _, d := range ds {
+			if d.via != ViaFootprint {
+				used[b.find(d.target)] = true
+			}
 		}
 	}
 	b.ids = make(map[int]string)
@@ -1021,22 +1090,7 @@ func (b *builder) access(n *Network) {
 		case ViaEntrance, ViaLateral:
 			r := b.find(pl.target)
 			a.Junction = b.ids[r]
-			end := b.rep[r]
-			from := pl.from
-			has := pl.lateral
-			if pl.via == ViaLateral {
-				f := &b.feet[bi]
-				if xy := b.proj.xy(end); !f.contains(xy) {
-					from, _ = f.nearestBoundary(xy)
-					has = true
-				}
-			}
-			if has {
-				if d := DistanceM(from, end); d > 0 {
-					a.LateralM = d
-					a.Lateral = orb.LineString{from, end}
-				}
-			}
+			a.LateralM, a.Lateral = b.lateralTo(bi, pl.via, r, pl.from, pl.lateral)
 			if a.LateralM > b.maxLat {
 				what := "footprint"
 				if pl.via == ViaEntrance {
@@ -1052,6 +1106,26 @@ func (b *builder) access(n *Network) {
 		n.Access = append(n.Access, a)
 	}
 	sort.Slice(n.Access, func(i, j int) bool { return n.Access[i].Building < n.Access[j].Building })
+}
+
+// lateralTo is the counted lateral of building bi to the junction with root r: from the
+// entrance point from when has (a declared entrance off the pathways), or for ViaLateral from
+// the nearest point of the footprint's boundary unless the junction is inside it.
+func (b *builder) lateralTo(bi int, via string, r int, from orb.Point, has bool) (float64, orb.LineString) {
+	end := b.rep[r]
+	if via == ViaLateral {
+		f := &b.feet[bi]
+		if xy := b.proj.xy(end); !f.contains(xy) {
+			from, _ = f.nearestBoundary(xy)
+			has = true
+		}
+	}
+	if has {
+		if d := DistanceM(from, end); d > 0 {
+			return d, orb.LineString{from, end}
+		}
+	}
+	return 0, nil
 }
 
 // crossings warns about pathways that cross with no junction where they cross.

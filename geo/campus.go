@@ -49,6 +49,7 @@ const (
 	PropPlenum     = "plenum"
 	PropGroup      = "group"
 	PropBuilding   = "building"
+	PropTransit    = "transit"
 )
 
 // DefaultRiserM is the riser length from a building's entrance to its telecom room, in metres,
@@ -68,10 +69,13 @@ type Source struct {
 // Building is a footprint polygon that may host a cross-connect.
 type Building struct {
 	Source
-	ID        string
-	Name      string
-	Role      string // RoleMC, RoleIC or "" for a served building
-	RiserM    float64
+	ID     string
+	Name   string
+	Role   string // RoleMC, RoleIC or "" for a served building
+	RiserM float64
+	// Transit allows routes to pass through the building, in at one entrance and out at
+	// another, as a pathway drawn inside it does (the "transit" property).
+	Transit   bool
 	Footprint orb.MultiPolygon
 }
 

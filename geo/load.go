@@ -551,8 +551,9 @@ func (f *feature) building(g orb.Geometry, ok bool) {
 	name, _ := f.str(PropName)
 	role, _ := f.enum(PropRole, roles, "")
 	riser := f.num(PropRiserM, DefaultRiserM, riserRange)
+	transit := f.flag(PropTransit)
 	f.l.c.Buildings = append(f.l.c.Buildings, Building{
-		Source: f.src, ID: f.id, Name: name, Role: role, RiserM: riser, Footprint: fp,
+		Source: f.src, ID: f.id, Name: name, Role: role, RiserM: riser, Transit: transit, Footprint: fp,
 	})
 }
 

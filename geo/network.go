@@ -11,6 +11,9 @@ type Options struct {
 	// declared entrance) to the nearest point of a pathway, used when no pathway end meets the
 	// footprint. Zero means DefaultMaxLateralM.
 	MaxLateralM float64
+	// NearMissM is how far from a dangling pathway end Build looks for a pathway or footprint
+	// it just misses (Network.NearMisses), in metres. Zero means DefaultNearMissM.
+	NearMissM float64
 }
 
 // DefaultSnapM and DefaultMaxLateralM are the Options defaults, in metres.
@@ -75,11 +78,21 @@ type Warning struct {
 
 // Network is the noded pathway network: junctions and spans sorted by ID, one Access per
 // building sorted by building ID, and the warnings met while building it.
+//
+// Beside them: every entrance of every building (Entrances, sorted by building ID then
+// junction ID; a building's Access is one of its entrances), what meets at each junction
+// (Meetings, parallel to Junctions), whether routes may pass through each building (Transit,
+// sorted by building ID) and the dangling pathway ends that nearly reach something
+// (NearMisses, by pathway ID, end, distance, kind and target).
 type Network struct {
-	Junctions []Junction
-	Spans     []Span
-	Access    []Access
-	Warnings  []Warning
+	Junctions  []Junction
+	Spans      []Span
+	Access     []Access
+	Warnings   []Warning
+	Entrances  []Entry
+	Meetings   []Meeting
+	Transit    []Transit
+	NearMisses []NearMiss
 
 	// Lookup maps set by Build; nil on a Network assembled by hand.
 	spanIdx, junctionIdx, accessIdx map[string]int

@@ -1,0 +1,211 @@
+package geo
+
+import (
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"reflect"
+	"sort"
+	"strings"
+	"testing"
+
+	"github.com/paulmach/orb"
+)
+
+// entryList prints a network's entrances as building:id:via@junction.
+func entryList(n *Network) string {
+	var s []string
+	for _, e := range n.Entrances {
+		s = append(s, e.Building+":"+e.ID+":"+e.Via+"@"+e.Junction)
+	}
+	return strings.Join(s, " ")
+}
+
+// twoStreets: building B (20 m square at the origin) is reached by lateral L1 from the south
+// street S and lateral L2 from the east street E; the streets meet at MH-1 and run on into the
+// hub H.
+func twoStreets() Campus {
+	return Campus{
+		Buildings: []Building{box("B", 0, 0, 10), box("H", -110, -50, 10)},
+		Pathways: []Pathway{
+			pw("S", ml(-110, -50, 0, -50, 60, -50)),
+			pw("E", ml(60, -50, 60, 0, 60, 100)),
+			pw("L1", ml(0, -50, 0, -5)),
+			pw("L2", ml(60, 0, 5, 0)),
+		},
+		Structures: []Structure{{Source: Source{"t.geojson", 9}, ID: "MH-1", Type: StructureMaintenanceHole, Point: at(60, -50)}},
+	}
+}
+
+// TestEntrancesTwoLaterals: a building with a lateral from each of two streets has two
+// entrances, one at each lateral's end; the old Build kept one and dropped the other.
+func TestEntrancesTwoLaterals(t *testing.T) {
+	t.Parallel()
+	c := twoStreets()
+	n := build(t, &c)
+	checkNetwork(t, n)
+	es := n.EntrancesOf("B")
+	if len(es) != 2 {
+		t.Fatalf("got entrances %s; want two for B", entryList(n))
+	}
+	ends := map[string]orb.Point{}
+	for _, e := range es {
+		j, _ := n.Junction(e.Junction)
+		ends[e.ID] = j.Point
+		if e.Via != ViaFootprint || e.LateralM != 0 || e.Lateral != nil {
+			t.Errorf("entrance %+v: want via footprint with no counted lateral", e)
+		}
+	}
+	// Named B:1, B:2 from west to east: L1's end (x 0) is west of L2's (x 5).
+	if ends["B:1"] != at(0, -5) || ends["B:2"] != at(5, 0) {
+		t.Errorf("got entrance points %v; want B:1 at L1's end, B:2 at L2's", ends)
+	}
+	a, _ := n.AccessOf("B")
+	if a.Junction != es[0].Junction && a.Junction != es[1].Junction {
+		t.Errorf("access %+v is not one of the entrances", a)
+	}
+	// The street S ends inside the hub's footprint: an entrance, not a dangling end.
+	if hs := n.EntrancesOf("H"); len(hs) != 1 || hs[0].ID != "H:1" {
+		t.Errorf("hub entrances %v", hs)
+	}
+}
+
+// TestEntrancesDeclaredAndFootprint: a building with a declared entrance on a pathway, one off
+// the pathways, one beyond MaxLateralM and a pathway end on its footprint has three entrances;
+// the access stays the declared one on a pathway, as before.
+func TestEntrancesDeclaredAndFootprint(t *testing.T) {
+	t.Parallel()
+	c := Campus{
+		Buildings: []Building{box("B", 0, 0, 10)},
+		Pathways:  []Pathway{pw("S", ml(-100, -20, 50, -20, 100, -20)), pw("L", ml(50, -20, 0, 8))},
+		Entrances: []Entrance{
+			{Source: Source{"t.geojson", 3}, ID: "E1", Building: "B", Point: at(0, -20)},
+			{Source: Source{"t.geojson", 4}, ID: "E2", Building: "B", Point: at(-30, 0)},
+			{Source: Source{"t.geojson", 5}, ID: "E3", Building: "B", Point: at(0, 200)},
+		},
+	}
+	n := build(t, &c)
+	checkNetwork(t, n)
+	got := map[string]Entry{}
+	for _, e := range n.EntrancesOf("B") {
+		got[e.ID] = e
+	}
+	if len(got) != 3 || got["E1"].Via != ViaEntrance || got["E2"].Via != ViaEntrance || got["B:1"].Via != ViaFootprint {
+		t.Fatalf("got entrances %s; want E1 and E2 (declared) and B:1 (L's end)", entryList(n))
+	}
+	if a, _ := n.AccessOf("B"); a.Junction != "E1" || a.Via != ViaEntrance || a.LateralM != 0 {
+		t.Errorf("access %+v; want E1, the declared entrance on a pathway", a)
+	}
+	// E2 is 20 m north of S: its own counted lateral, from the entrance point.
+	e2 := got["E2"]
+	j, _ := n.Junction(e2.Junction)
+	if math.Abs(e2.LateralM-DistanceM(at(-30, 0), j.Point)) > 1e-9 || math.Abs(e2.LateralM-20) > 0.05 ||
+		len(e2.Lateral) != 2 || e2.Lateral[0] != at(-30, 0) || e2.Lateral[1] != j.Point {
+		t.Errorf("E2: %+v; want a 20 m lateral from the entrance to S", e2)
+	}
+	warned := false
+	for _, w := range n.Warnings {
+		if w.Feature == "#5 (E3)" && strings.Contains(w.Message, `entrance "E3" of building "B" is not within 30 m`) {
+			warned = true
+		}
+	}
+	if !warned {
+		t.Errorf("no warning for E3, 200 m from any pathway: %v", n.Warnings)
+	}
+}
+
+// entrySig is an entrance as it reads beside the names: its building (through un), its ID
+// with the building's name put back, how it is reached and where.
+func entrySig(n *Network, un func(string) string) []string {
+	var out []string
+	for _, e := range n.Entrances {
+		j, _ := n.Junction(e.Junction)
+		b := un(e.Building)
+		id := e.ID
+		if strings.HasPrefix(id, e.Building+EntrySep) {
+			id = b + strings.TrimPrefix(id, e.Building)
+		}
+		out = append(out, fmt.Sprintf("%s %s %s %.7f,%.7f %.6f %v", b, id, e.Via, j.Point[0], j.Point[1], e.LateralM, e.Lateral))
+	}
+	sort.Strings(out)
+	return out
+}
+
+// TestEntrancesIgnoreOrderNamesAndSplits: a building's entrances, their ids and their laterals
+// do not change when the features come in another order, when pathways and buildings are
+// renamed (beyond the names themselves), or when a pathway is drawn as two pathways meeting at
+// one of its vertices.
+func TestEntrancesIgnoreOrderNamesAndSplits(t *testing.T) {
+	t.Parallel()
+	base := twoStreets()
+	base.Buildings = append(base.Buildings, box("C", 200, 0, 10))
+	base.Pathways[0] = pw("S", ml(-110, -50, -50, -50, 0, -50, 60, -50))
+	base.Pathways[1] = pw("E", ml(60, -50, 60, 0, 60, 30, 60, 100))
+	base.Pathways = append(base.Pathways, pw("L3", ml(60, 30, 195, 5)), pw("L4", ml(60, 80, 200, 6)))
+	base.Entrances = []Entrance{
+		{Source: Source{"t.geojson", 20}, Building: "C", Point: at(185, -10)},
+		{Source: Source{"t.geojson", 21}, ID: "C-N", Building: "C", Point: at(150, 40)},
+	}
+	same := func(s string) string { return s }
+	n := build(t, &base)
+	checkNetwork(t, n)
+	var ids []string
+	for _, e := range n.Entrances {
+		ids = append(ids, e.ID)
+	}
+	sort.Strings(ids)
+	if got := strings.Join(ids, " "); got != "B:1 B:2 C-N C:1 C:2 E-C H:1" {
+		t.Fatalf("got entrances %s", entryList(n))
+	}
+	want := entrySig(n, same)
+
+	r := rand.New(rand.NewPCG(13, 1))
+	for k := 0; k < 20; k++ {
+		c := base
+		c.Buildings = append([]Building(nil), base.Buildings...)
+		c.Pathways = append([]Pathway(nil), base.Pathways...)
+		c.Entrances = append([]Entrance(nil), base.Entrances...)
+		r.Shuffle(len(c.Buildings), func(i, j int) { c.Buildings[i], c.Buildings[j] = c.Buildings[j], c.Buildings[i] })
+		r.Shuffle(len(c.Pathways), func(i, j int) { c.Pathways[i], c.Pathways[j] = c.Pathways[j], c.Pathways[i] })
+		if got := entrySig(build(t, &c), same); !reflect.DeepEqual(got, want) {
+			t.Fatalf("shuffle %d:\ngot  %v\nwant %v", k, got, want)
+		}
+	}
+
+	renamed := base
+	prefix := "zz-"
+	renamed.Buildings = append([]Building(nil), base.Buildings...)
+	renamed.Pathways = append([]Pathway(nil), base.Pathways...)
+	renamed.Entrances = append([]Entrance(nil), base.Entrances...)
+	for i := range renamed.Buildings {
+		renamed.Buildings[i].ID = prefix + renamed.Buildings[i].ID
+	}
+	for i := range renamed.Pathways {
+		renamed.Pathways[i].ID = "q" + renamed.Pathways[i].ID
+		renamed.Pathways[i].Group = renamed.Pathways[i].ID
+	}
+	for i := range renamed.Entrances {
+		renamed.Entrances[i].Building = prefix + renamed.Entrances[i].Building
+	}
+	// The id-less entrance's generated id follows its building's name.
+	un := func(s string) string { return strings.TrimPrefix(s, prefix) }
+	got := entrySig(build(t, &renamed), un)
+	for i := range got {
+		got[i] = strings.ReplaceAll(got[i], EntrancePrefix+prefix, EntrancePrefix)
+	}
+	if !reflect.DeepEqual(got, want) {
+		t.Fatalf("renamed:\ngot  %v\nwant %v", got, want)
+	}
+
+	// S split at its vertex (-50, -50), where nothing joins, and E at (60, 30), where L3
+	// starts: the same entrances (the junction numbers may move; the places do not).
+	split := base
+	split.Pathways = []Pathway{
+		pw("S-a", ml(-110, -50, -50, -50)), pw("S-b", ml(-50, -50, 0, -50, 60, -50)),
+		pw("E-a", ml(60, -50, 60, 0, 60, 30)), pw("E-b", ml(60, 30, 60, 100)),
+	}
+	split.Pathways = append(split.Pathways, base.Pathways[2:]...)
+	if got := entrySig(build(t, &split), same); !reflect.DeepEqual(got, want) {
+		t.Fatalf("split:\ngot  %v\nwant %v", got, want)
+	}
+}

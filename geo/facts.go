@@ -1,0 +1,415 @@
+package geo
+
+import (
+	"fmt"
+	"math"
+	"sort"
+	"strconv"
+
+	"github.com/paulmach/orb"
+)
+
+// DefaultNearMissM is how far, in metres, Build looks from a dangling pathway end for a
+// pathway or footprint it just misses, when Options.NearMissM is zero (modelling choice: a few
+// metres holds the usual drawing slips, a missed snap or a line stopped short of a wall, and
+// little that was meant to stop where it does).
+const DefaultNearMissM = 5.0
+
+// Meeting is what meets at one junction.
+type Meeting struct {
+	Junction string
+	Spans    []string // IDs of the spans that end there, sorted
+	Pathways []string // the pathway ID of each span in Spans
+	// Degree is the number of span ends there: a span that leaves and returns to the junction
+	// counts twice.
+	Degree    int
+	Structure bool // the junction is a maintenance hole, handhole or pull box
+	// Buildings lists, sorted, the buildings the junction is an entrance of without a counted
+	// lateral (a pathway end on the footprint, or a declared entrance on a pathway): there the
+	// cable is in the building.
+	Buildings []string
+}
+
+// Pass is how a cable passes from one span to another at a junction.
+type Pass string
+
+// Ways to pass a junction, the values of PassAt.
+//
+// Pathways drawn meeting at a point are, underground, separate ducts: a cable pulled along one
+// duct can only leave it for another where someone can reach in, at a maintenance hole,
+// handhole or pull box. So a route turns from one pathway into another only at a structure;
+// where three or more spans meet with no structure, a turn needs one built there. Two spans
+// meeting alone (a duct drawn in pieces), and the pieces of one pathway split where another
+// joins it, are the same duct carried on. (Common practice, no published source; TIA-569's
+// rule of a pull point after at most two 90° bends of conduit is the related published rule,
+// from memory.) A turn at a building's entrance (Meeting.Buildings) is made inside the
+// building, where the cable leaves its duct anyway: it needs no structure, but it passes
+// through the building, which Transit says whether routes may do.
+const (
+	PassStraight       Pass = "straight"        // degree 2, or both spans are pieces of one pathway
+	PassAtStructure    Pass = "structure"       // a turn from one pathway into another at a structure
+	PassInBuilding     Pass = "building"        // a turn at an entrance, inside the building
+	PassNeedsStructure Pass = "needs-structure" // a turn with three or more spans, no structure and no building
+)
+
+// Transit says whether routes may pass through a building, in at one of its entrances and
+// out at another.
+type Transit struct {
+	Building string
+	Allowed  bool     // Marked, or some pathway is drawn inside the building
+	Marked   bool     // the building's "transit" property is true
+	Interior []string // IDs of the pathways inside the building, sorted
+}
+
+// NearMiss is a dangling pathway end (one joined to nothing) that lies near a pathway or a
+// building footprint it does not join: farther than SnapM, within Options.NearMissM.
+type NearMiss struct {
+	Pathway  string // the pathway whose end it is
+	Source   Source // that pathway's feature
+	Junction string // the junction at the end
+	End      orb.Point
+	// Kind is KindPathway or KindBuilding: what the end misses; Target is its ID.
+	Kind   string
+	Target string
+	At     orb.Point // the nearest point of the target (of the footprint's boundary)
+	// DistanceM is the ellipsoidal distance from End to At; SnapM the snap distance it is
+	// beyond.
+	DistanceM float64
+	SnapM     float64
+}
+
+// String says what was missed and by how much, e.g. "pathway D-12 ends 0.8 m from pathway
+// T-3, beyond snap_m 0.5".
+func (m NearMiss) String() string {
+	what := "pathway"
+	if m.Kind == KindBuilding {
+		what = "the footprint of building"
+	}
+	return fmt.Sprintf("pathway %s ends %s m from %s %s, beyond snap_m %s", m.Pathway, fmtBeyond(m.DistanceM, m.SnapM), what, m.Target, fmtM(m.SnapM))
+}
+
+// fmtBeyond prints distance d with one decimal, or as many more (up to three) as it takes not
+// to print a value that does not exceed snap.
+func fmtBeyond(d, snap float64) string {
+	for prec := 1; ; prec++ {
+		s := strconv.FormatFloat(d, 'f', prec, 64)
+		if x, _ := strconv.ParseFloat(s, 64); x > snap || prec == 3 {
+			return s
+		}
+	}
+}
+
+// MeetingAt returns what meets at the junction with the given ID. It takes O(1) on a Network
+// from Build and O(spans) on one assembled by hand.
+func (n *Network) MeetingAt(junction string) (Meeting, bool) {
+	if n.junctionIdx != nil && len(n.Meetings) == len(n.Junctions) {
+		i, ok := n.junctionIdx[junction]
+		if !ok {
+			return Meeting{}, false
+		}
+		return n.Meetings[i], true
+	}
+	j, ok := n.Junction(junction)
+	if !ok {
+		return Meeting{}, false
+	}
+	return meetingOf(j, n), true
+}
+
+// meetingOf gathers from the spans and entrances of n what meets at junction j.
+func meetingOf(j Junction, n *Network) Meeting {
+	m := Meeting{Junction: j.ID, Structure: j.Kind == JunctionStructure}
+	for _, s := range n.Spans {
+		if s.From != j.ID && s.To != j.ID {
+			continue
+		}
+		m.Spans = append(m.Spans, s.ID)
+		m.Pathways = append(m.Pathways, s.PathwayID)
+		if s.From == j.ID {
+			m.Degree++
+		}
+		if s.To == j.ID {
+			m.Degree++
+		}
+	}
+	for _, e := range n.Entrances {
+		if e.Junction == j.ID && (e.Via == ViaFootprint || (e.Via == ViaEntrance && e.LateralM == 0)) && !contains(m.Buildings, e.Building) {
+			m.Buildings = append(m.Buildings, e.Building)
+		}
+	}
+	sort.Strings(m.Buildings)
+	return m
+}
+
+// PassAt says how a cable passes from span from to span to at the junction with the given ID
+// (see Pass); ok is false when the junction is unknown or either span does not end there.
+func (n *Network) PassAt(junction, from, to string) (p Pass, ok bool) {
+	m, ok := n.MeetingAt(junction)
+	if !ok {
+		return "", false
+	}
+	pf, pt := "", ""
+	for i, s := range m.Spans {
+		if s == from {
+			pf = m.Pathways[i]
+		}
+		if s == to {
+			pt = m.Pathways[i]
+		}
+	}
+	switch {
+	case pf == "" || pt == "":
+		return "", false
+	case m.Degree <= 2 || pf == pt:
+		return PassStraight, true
+	case m.Structure:
+		return PassAtStructure, true
+	case len(m.Buildings) > 0:
+		return PassInBuilding, true
+	}
+	return PassNeedsStructure, true
+}
+
+// TransitOf returns whether routes may pass through the building with the given ID, as Span
+// does.
+func (n *Network) TransitOf(building string) (Transit, bool) {
+	i := sort.Search(len(n.Transit), func(i int) bool { return n.Transit[i].Building >= building })
+	if i < len(n.Transit) && n.Transit[i].Building == building {
+		return n.Transit[i], true
+	}
+	for _, t := range n.Transit {
+		if t.Building == building {
+			return t, true
+		}
+	}
+	return Transit{}, false
+}
+
+// facts fills the junction meetings, the buildings' transit, the dangling-end warnings and
+// the near misses, once spans, junctions and entrances are known.
+func (b *builder) facts(n *Network) {
+	n.Meetings = make([]Meeting, len(n.Junctions))
+	at := make(map[string]int, len(n.Junctions))
+	for i, j := range n.Junctions {
+		n.Meetings[i] = Meeting{Junction: j.ID, Structure: j.Kind == JunctionStructure}
+		at[j.ID] = i
+	}
+	// Two passes, so that every meeting's lists share two backing arrays.
+	for _, s := range n.Spans {
+		n.Meetings[at[s.From]].Degree++
+		n.Meetings[at[s.To]].Degree++
+	}
+	spans, pathways := make([]string, 2*len(n.Spans)), make([]string, 2*len(n.Spans))
+	off := 0
+	for i := range n.Meetings {
+		m := &n.Meetings[i]
+		m.Spans, m.Pathways = spans[off:off:off+m.Degree], pathways[off:off:off+m.Degree]
+		off += m.Degree
+	}
+	for _, s := range n.Spans {
+		for _, end := range [2]string{s.From, s.To} {
+			m := &n.Meetings[at[end]]
+			if k := len(m.Spans); k == 0 || m.Spans[k-1] != s.ID {
+				m.Spans = append(m.Spans, s.ID)
+				m.Pathways = append(m.Pathways, s.PathwayID)
+			}
+		}
+	}
+	for _, e := range n.Entrances { // sorted by building
+		if e.Via == ViaFootprint || (e.Via == ViaEntrance && e.LateralM == 0) {
+			m := &n.Meetings[at[e.Junction]]
+			if k := len(m.Buildings); k == 0 || m.Buildings[k-1] != e.Building {
+				m.Buildings = append(m.Buildings, e.Building)
+			}
+		}
+	}
+	b.transit(n)
+	b.dangling(n)
+}
+
+// transit finds, for every building, the pathways drawn inside it: both ends of every line in
+// the footprint (or within SnapM of its boundary), or, for a tunnel or tray, more than half
+// the pathway's length inside it (projected). A duct with more than half its length inside is
+// not enough: service ducts are often drawn through the wall to the telecom room (half of the
+// demo campus's are, one end outside), and a building is not a through-route for that.
+func (b *builder) transit(n *Network) {
+	partsOf := make([][2]int, len(b.c.Pathways)) // first and past-last part of each pathway
+	for pi := range partsOf {
+		partsOf[pi] = [2]int{-1, -1}
+	}
+	for q, p := range b.parts {
+		if partsOf[p.pw][0] < 0 {
+			partsOf[p.pw][0] = q
+		}
+		partsOf[p.pw][1] = q + 1
+	}
+	for bi, bl := range b.c.Buildings {
+		t := Transit{Building: bl.ID, Marked: bl.Transit}
+		f := &b.feet[bi]
+		if !f.empty() {
+			b.buf = b.segGrid.query(f.lo.sub(vec{b.snap, b.snap}), f.hi.add(vec{b.snap, b.snap}), b.buf)
+			var pws []int
+			for _, s := range b.buf {
+				if pw := b.parts[b.segs[s].part].pw; len(pws) == 0 || pws[len(pws)-1] != pw {
+					pws = append(pws, pw)
+				}
+			}
+			for _, pw := range pws {
+				if b.inside(f, partsOf[pw]) {
+					t.Interior = append(t.Interior, b.c.Pathways[pw].ID)
+				}
+			}
+		}
+		sort.Strings(t.Interior)
+		t.Allowed = t.Marked || len(t.Interior) > 0
+		n.Transit = append(n.Transit, t)
+	}
+	sort.Slice(n.Transit, func(i, j int) bool { return n.Transit[i].Building < n.Transit[j].Building })
+}
+
+// inside reports whether the pathway made of parts r[0]..r[1]-1 lies inside footprint f.
+func (b *builder) inside(f *footprint, r [2]int) bool {
+	touches := func(xy vec) bool {
+		if f.contains(xy) {
+			return true
+		}
+		_, d := f.nearestBoundary(xy)
+		return d <= b.snap
+	}
+	ends := true
+	var in, all float64
+	for q := r[0]; q < r[1]; q++ {
+		p := &b.parts[q]
+		if !touches(p.xy[0]) || !touches(p.xy[len(p.xy)-1]) {
+			ends = false
+		}
+		for i := 1; i < len(p.xy); i++ {
+			in += f.insideLen(p.xy[i-1], p.xy[i])
+		}
+		all += p.cum[len(p.cum)-1]
+	}
+	if ends {
+		return true
+	}
+	typ := b.c.Pathways[b.parts[r[0]].pw].Type
+	return (typ == TypeTunnel || typ == TypeTray) && in > all/2
+}
+
+// insideLen is the projected length of segment ab inside footprint f.
+func (f *footprint) insideLen(a, c vec) float64 {
+	if math.Max(a.x, c.x) < f.lo.x || math.Min(a.x, c.x) > f.hi.x || math.Max(a.y, c.y) < f.lo.y || math.Min(a.y, c.y) > f.hi.y {
+		return 0
+	}
+	ts := []float64{0, 1}
+	for _, poly := range f.rings {
+		for _, ring := range poly {
+			for i := 1; i < len(ring); i++ {
+				if t, _, ok := segIntersect(a, c, ring[i-1], ring[i]); ok {
+					ts = append(ts, t)
+				}
+			}
+		}
+	}
+	sort.Float64s(ts)
+	l, sum := a.dist(c), 0.0
+	for i := 1; i < len(ts); i++ {
+		if ts[i] > ts[i-1] && f.contains(lerp(a, c, (ts[i-1]+ts[i])/2)) {
+			sum += (ts[i] - ts[i-1]) * l
+		}
+	}
+	return sum
+}
+
+// dangling warns about every pathway end that joins nothing (no other span, structure,
+// entrance or footprint there) and lists what such ends nearly reach.
+func (b *builder) dangling(n *Network) {
+	entry := make(map[string]bool, len(n.Entrances))
+	for _, e := range n.Entrances {
+		entry[e.Junction] = true
+	}
+	degree := make(map[string]int, len(n.Meetings))
+	for _, m := range n.Meetings {
+		degree[m.Junction] = m.Degree
+	}
+	seen := make(map[string]bool)
+	for pi := range b.parts {
+		p := &b.parts[pi]
+		for _, v := range [2]int{0, len(p.xy) - 1} {
+			r := b.find(p.v0 + v)
+			id, ok := b.ids[r]
+			if !ok || b.labeled[r] || degree[id] != 1 || entry[id] || seen[id] {
+				continue
+			}
+			seen[id] = true
+			pw := b.c.Pathways[p.pw]
+			b.warns = append(b.warns, warnRec{pw.Source, pw.ID, fmt.Sprintf(
+				"pathway %q ends at %s, %s joined to nothing: no other pathway, structure, entrance or building footprint within %s m (SnapM)",
+				pw.ID, fmtLL(p.ll[v][0]), fmtLL(p.ll[v][1]), fmtM(b.snap))})
+			n.NearMisses = append(n.NearMisses, b.nearMisses(pi, v, id)...)
+		}
+	}
+	sort.SliceStable(n.NearMisses, func(i, j int) bool {
+		x, y := n.NearMisses[i], n.NearMisses[j]
+		if x.Pathway != y.Pathway {
+			return x.Pathway < y.Pathway
+		}
+		if x.End != y.End {
+			return lessLL(x.End, y.End)
+		}
+		if dx, dy := math.Round(x.DistanceM*1000), math.Round(y.DistanceM*1000); dx != dy {
+			return dx < dy
+		}
+		if x.Kind != y.Kind {
+			return x.Kind < y.Kind
+		}
+		return x.Target < y.Target
+	})
+}
+
+// nearMisses lists the pathways and footprints within NearMissM of vertex v of part pi (an
+// end at junction id) but beyond SnapM, each once at its nearest point.
+func (b *builder) nearMisses(pi, v int, id string) []NearMiss {
+	p := &b.parts[pi]
+	xy, end := p.xy[v], p.ll[v]
+	pw := b.c.Pathways[p.pw]
+	near := NearMiss{Pathway: pw.ID, Source: pw.Source, Junction: id, End: end, SnapM: b.snap}
+	type hit struct {
+		d  float64
+		at orb.Point
+	}
+	best := make(map[int]hit) // pathway index → nearest place
+	b.nearParts(xy, b.nearMiss, -1, func(q int, segIDs []int32) {
+		o := &b.parts[q]
+		if o.pw == p.pw {
+			return
+		}
+		for _, s := range segIDs {
+			i := b.segs[s].i
+			t, d2 := closestOnSeg(xy, o.xy[i], o.xy[i+1])
+			if h, ok := best[o.pw]; !ok || d2 < h.d {
+				best[o.pw] = hit{d2, lerpLL(o.ll[i], o.ll[i+1], t)}
+			}
+		}
+	})
+	var out []NearMiss
+	for pw, h := range best {
+		if d := math.Sqrt(h.d); d > b.snap && d <= b.nearMiss {
+			m := near
+			m.Kind, m.Target, m.At, m.DistanceM = KindPathway, b.c.Pathways[pw].ID, h.at, DistanceM(end, h.at)
+			out = append(out, m)
+		}
+	}
+	for bi, bl := range b.c.Buildings {
+		f := &b.feet[bi]
+		r := b.nearMiss
+		if f.empty() || xy.x < f.lo.x-r || xy.x > f.hi.x+r || xy.y < f.lo.y-r || xy.y > f.hi.y+r || f.contains(xy) {
+			continue
+		}
+		if at, d := f.nearestBoundary(xy); d > b.snap && d <= r {
+			m := near
+			m.Kind, m.Target, m.At, m.DistanceM = KindBuilding, bl.ID, at, DistanceM(end, at)
+			out = append(out, m)
+		}
+	}
+	return out
+}

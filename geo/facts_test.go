@@ -1,0 +1,276 @@
+package geo
+
+import (
+	"errors"
+	"math"
+	"reflect"
+	"strings"
+	"testing"
+
+	"spanwright/geo/input"
+)
+
+// junctionAt returns the ID of the junction at (x, y).
+func junctionAt(t *testing.T, n *Network, x, y float64) string {
+	t.Helper()
+	for _, j := range n.Junctions {
+		if j.Point == at(x, y) {
+			return j.ID
+		}
+	}
+	t.Fatalf("no junction at %v, %v", x, y)
+	return ""
+}
+
+// TestPassAtTJunction: where a duct ends on another with no structure, a cable may carry on
+// along the through duct but cannot turn into the branch; with a maintenance hole there it
+// can. (A cable cannot leave one duct for another without a handhole or pull box: common
+// practice, no published source.)
+func TestPassAtTJunction(t *testing.T) {
+	t.Parallel()
+	c := Campus{Pathways: []Pathway{pw("A", ml(0, 0, 100, 0, 200, 0)), pw("B", ml(100, 0, 100, 100))}}
+	n := build(t, &c)
+	checkNetwork(t, n)
+	j := junctionAt(t, n, 100, 0)
+	m, ok := n.MeetingAt(j)
+	want := Meeting{Junction: j, Spans: []string{"A/1", "A/2", "B"}, Pathways: []string{"A", "A", "B"}, Degree: 3}
+	if !ok || !reflect.DeepEqual(m, want) {
+		t.Fatalf("meeting at %s: got %+v, want %+v", j, m, want)
+	}
+	for _, tc := range []struct {
+		from, to string
+		want     Pass
+	}{
+		{"A/1", "A/2", PassStraight},
+		{"A/2", "A/1", PassStraight},
+		{"A/1", "B", PassNeedsStructure},
+		{"B", "A/2", PassNeedsStructure},
+	} {
+		if got, ok := n.PassAt(j, tc.from, tc.to); !ok || got != tc.want {
+			t.Errorf("no structure: %s → %s at %s: got %q %v, want %q", tc.from, tc.to, j, got, ok, tc.want)
+		}
+	}
+	if _, ok := n.PassAt(j, "A/1", "nope"); ok {
+		t.Error("a span that does not end at the junction: got ok")
+	}
+	if _, ok := n.PassAt("nope", "A/1", "B"); ok {
+		t.Error("an unknown junction: got ok")
+	}
+	// The same answers on a network assembled by hand (no index).
+	byHand := Network{Junctions: n.Junctions, Spans: n.Spans}
+	if got, ok := byHand.PassAt(j, "A/1", "B"); !ok || got != PassNeedsStructure {
+		t.Errorf("by hand: got %q %v", got, ok)
+	}
+
+	c.Structures = []Structure{{Source: Source{"t.geojson", 2}, ID: "MH-1", Type: StructureMaintenanceHole, Point: at(100, 0)}}
+	n = build(t, &c)
+	if m, _ := n.MeetingAt("MH-1"); !m.Structure || m.Degree != 3 {
+		t.Errorf("with MH-1: meeting %+v", m)
+	}
+	if got, _ := n.PassAt("MH-1", "A/1", "B"); got != PassAtStructure {
+		t.Errorf("with MH-1: A/1 → B got %q, want %q", got, PassAtStructure)
+	}
+	if got, _ := n.PassAt("MH-1", "A/1", "A/2"); got != PassStraight {
+		t.Errorf("with MH-1: A/1 → A/2 got %q, want %q", got, PassStraight)
+	}
+
+	// With no structure but the junction inside building G (B ends there, so it is one of
+	// G's entrances): the turn is made inside G.
+	c.Structures = nil
+	c.Buildings = []Building{box("G", 100, 0, 5)}
+	n = build(t, &c)
+	j = junctionAt(t, n, 100, 0)
+	if m, _ := n.MeetingAt(j); !reflect.DeepEqual(m.Buildings, []string{"G"}) {
+		t.Errorf("in G: meeting %+v", m)
+	}
+	if got, _ := n.PassAt(j, "A/1", "B"); got != PassInBuilding {
+		t.Errorf("in G: A/1 → B got %q, want %q", got, PassInBuilding)
+	}
+}
+
+// TestPassAtDuctInPieces: a duct drawn as two pathways meeting end to end (two spans at the
+// junction) is a straight continuation, even with a bend there.
+func TestPassAtDuctInPieces(t *testing.T) {
+	t.Parallel()
+	c := Campus{Pathways: []Pathway{pw("D1", ml(0, 0, 100, 0)), pw("D2", ml(100, 0, 150, 50))}}
+	n := build(t, &c)
+	j := junctionAt(t, n, 100, 0)
+	if got, ok := n.PassAt(j, "D1", "D2"); !ok || got != PassStraight {
+		t.Errorf("D1 → D2 at %s: got %q %v, want %q", j, got, ok, PassStraight)
+	}
+	if m, _ := n.MeetingAt(j); m.Degree != 2 || m.Structure {
+		t.Errorf("meeting %+v", m)
+	}
+}
+
+// dangles returns the warnings about pathway ends that join nothing.
+func dangles(n *Network) []Warning {
+	var out []Warning
+	for _, w := range n.Warnings {
+		if strings.Contains(w.Message, "joined to nothing") {
+			out = append(out, w)
+		}
+	}
+	return out
+}
+
+// TestIslandNearMiss: an island building whose only pathway D-12 stops 0.8 m short of the
+// street T-3 (beyond SnapM 0.5 m): D-12's end is warned about as dangling and listed as a
+// near miss with its distance; so is P-9, which stops 2 m short of building X's footprint.
+// Ends on footprints and ends joined to other pathways are neither.
+func TestIslandNearMiss(t *testing.T) {
+	t.Parallel()
+	c := Campus{
+		Buildings: []Building{box("ISL", 0, 50, 10), box("H", -110, 0, 10), box("K", 110, 0, 10), box("X", 50, 50, 10)},
+		Pathways: []Pathway{
+			pw("T-3", ml(-110, 0, 30, 0, 70, 0, 110, 0)),
+			pw("D-12", ml(0, 45, 0, 0.8)),
+			pw("Q", ml(70, 0, 55, 45)),
+			pw("P-9", ml(30, 0, 45, 38)),
+		},
+	}
+	for i := range c.Pathways {
+		c.Pathways[i].Index = 10 + i
+	}
+	n := build(t, &c)
+	checkNetwork(t, n)
+	if len(n.NearMisses) != 2 {
+		t.Fatalf("got near misses %v; want D-12 → T-3 and P-9 → X", n.NearMisses)
+	}
+	d, p := n.NearMisses[0], n.NearMisses[1]
+	if d.Pathway != "D-12" || d.Kind != KindPathway || d.Target != "T-3" || d.End != at(0, 0.8) || d.At != at(0, 0) ||
+		d.SnapM != DefaultSnapM || d.Source.Index != 11 {
+		t.Errorf("near miss %+v", d)
+	}
+	// at() rounds the metre per degree; DistanceM (Vincenty) is the reference.
+	if math.Abs(d.DistanceM-DistanceM(at(0, 0.8), at(0, 0))) > 1e-6 || math.Abs(d.DistanceM-0.8) > 0.01 {
+		t.Errorf("D-12 misses by %v m, want 0.8", d.DistanceM)
+	}
+	if s := d.String(); s != "pathway D-12 ends 0.8 m from pathway T-3, beyond snap_m 0.5" {
+		t.Errorf("got %q", s)
+	}
+	if j, _ := n.Junction(d.Junction); j.Point != at(0, 0.8) {
+		t.Errorf("near miss junction %s at %v", d.Junction, j.Point)
+	}
+	if p.Pathway != "P-9" || p.Kind != KindBuilding || p.Target != "X" || math.Abs(p.DistanceM-2) > 0.01 {
+		t.Errorf("near miss %+v", p)
+	}
+	if s := p.String(); s != "pathway P-9 ends 2.0 m from the footprint of building X, beyond snap_m 0.5" {
+		t.Errorf("got %q", s)
+	}
+	ws := dangles(n)
+	if len(ws) != 2 || ws[0].Feature != "#11 (D-12)" || ws[1].Feature != "#13 (P-9)" || ws[0].File != "t.geojson" ||
+		!strings.Contains(ws[0].Message, `pathway "D-12" ends at 10.0000000, 50.0000072`) {
+		t.Errorf("dangling-end warnings %v; want D-12's and P-9's", ws)
+	}
+
+	// A larger snap joins D-12 to T-3: no near miss, no warning for it.
+	n2, err := Build(&c, Options{SnapM: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, m := range n2.NearMisses {
+		if m.Pathway == "D-12" {
+			t.Errorf("snap 1 m: near miss %v", m)
+		}
+	}
+	// A smaller look-out misses P-9's 2 m.
+	n3, err := Build(&c, Options{NearMissM: 1.5})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(n3.NearMisses) != 1 || n3.NearMisses[0].Pathway != "D-12" {
+		t.Errorf("NearMissM 1.5: %v", n3.NearMisses)
+	}
+}
+
+// TestFmtBeyond: a miss is never printed as a distance within the snap.
+func TestFmtBeyond(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		d, snap float64
+		want    string
+	}{{0.8, 0.5, "0.8"}, {0.52, 0.5, "0.52"}, {0.5004, 0.5, "0.500"}, {12.345, 0.5, "12.3"}} {
+		if got := fmtBeyond(tc.d, tc.snap); got != tc.want {
+			t.Errorf("fmtBeyond(%v, %v) = %q, want %q", tc.d, tc.snap, got, tc.want)
+		}
+	}
+}
+
+// TestTransitBasementTunnel: a tunnel drawn inside a building (both ends in its footprint)
+// and a tray drawn mostly inside one make them buildings a route may pass through; a lateral
+// that merely ends inside does not; the "transit" property allows it explicitly.
+func TestTransitBasementTunnel(t *testing.T) {
+	t.Parallel()
+	mark := box("GYM", 0, 200, 10)
+	mark.Transit = true
+	c := Campus{
+		Buildings: []Building{box("LIB", 0, 0, 20), box("SCI", 200, 0, 20), mark},
+		Pathways: []Pathway{
+			pw("S1", ml(-100, 0, -18, 0)),
+			pw("S2", ml(18, 0, 100, 0, 200, -50)),
+			pw("BT", ml(-18, 0, 18, 0)),
+			pw("TR", ml(185, 5, 225, 5)),
+			pw("S3", ml(200, -50, 200, -15)),
+			pw("S4", ml(100, 0, 0, 195)),
+			// A service duct drawn through LIB's wall, most of it inside: a lateral, no
+			// through-route (only tunnels and trays count by length).
+			pw("SV", ml(-25, 10, 15, 10)),
+		},
+	}
+	c.Pathways[2].Type = TypeTunnel
+	c.Pathways[3].Type = TypeTray
+	n := build(t, &c)
+	checkNetwork(t, n)
+	want := []Transit{
+		{Building: "GYM", Allowed: true, Marked: true},
+		{Building: "LIB", Allowed: true, Interior: []string{"BT"}},
+		{Building: "SCI", Allowed: true, Interior: []string{"TR"}},
+	}
+	if !reflect.DeepEqual(n.Transit, want) {
+		t.Errorf("transit:\ngot  %+v\nwant %+v", n.Transit, want)
+	}
+	if tr, ok := n.TransitOf("LIB"); !ok || !tr.Allowed {
+		t.Errorf("TransitOf(LIB) = %+v, %v", tr, ok)
+	}
+	// The tunnel's ends are LIB's entrances, where S1 and S2 meet it inside LIB.
+	if got, _ := n.PassAt(junctionAt(t, n, -18, 0), "S1", "BT"); got != PassStraight {
+		t.Errorf("S1 → BT: got %q", got)
+	}
+	// Without the tunnel, LIB is no through-route: S1 and S2 only end inside it.
+	c.Pathways = append(c.Pathways[:2:2], c.Pathways[3:]...)
+	n = build(t, &c)
+	if tr, _ := n.TransitOf("LIB"); tr.Allowed || tr.Interior != nil {
+		t.Errorf("LIB without its tunnel: %+v", tr)
+	}
+	if es := n.EntrancesOf("LIB"); len(es) != 3 {
+		t.Errorf("LIB's entrances %v; want S1's end, S2's and SV's", es)
+	}
+}
+
+// TestParseTransit: "transit" is read as a boolean with the other building properties, and a
+// value of another type is a positioned error naming the file, feature and key.
+func TestParseTransit(t *testing.T) {
+	t.Parallel()
+	const poly = `"geometry":{"type":"Polygon","coordinates":[[[10,50],[10.001,50],[10.001,50.001],[10,50]]]}`
+	c, err := Parse("c.geojson", []byte(`{"type":"FeatureCollection","features":[
+		{"type":"Feature","properties":{"id":"A","transit":true},`+poly+`},
+		{"type":"Feature","properties":{"id":"B"},`+poly+`}]}`))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !c.Buildings[0].Transit || c.Buildings[1].Transit {
+		t.Errorf("got %+v", c.Buildings)
+	}
+	_, err = Parse("c.geojson", []byte(`{"type":"FeatureCollection","features":[
+		{"type":"Feature","properties":{"id":"A","transit":"yes"},`+poly+`}]}`))
+	var ps *input.Problems
+	if !errors.As(err, &ps) || len(ps.List) != 1 {
+		t.Fatalf("got %v", err)
+	}
+	p := ps.List[0]
+	if !errors.Is(err, ErrWrongType) || p.File != "c.geojson" || p.Feature == nil || p.Feature.Index != 0 || p.Feature.ID != "A" ||
+		p.Key != PropTransit || !strings.Contains(p.Error(), "want true or false") {
+		t.Errorf("got %+v: %v", p, p)
+	}
+}
