@@ -512,6 +512,36 @@ func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
 			fmt.Fprintf(w, "  cut off: %s\n", t(why))
 		}
 	}
+	if len(r.ThroughOnly) > 0 {
+		fmt.Fprintf(w, "through     %d buildings reach the hub only through another building routes may not cross: %s\n", len(r.ThroughOnly), escape.TerminalList(r.ThroughOnly))
+	}
+	// The entrances, one line per building that has more than one or a declared one.
+	var multi []string
+	for i := 0; i < len(r.Entrances); {
+		j := i
+		var ids []string
+		declared := false
+		for ; j < len(r.Entrances) && r.Entrances[j].Building == r.Entrances[i].Building; j++ {
+			ids = append(ids, r.Entrances[j].ID)
+			declared = declared || r.Entrances[j].Via == geo.ViaEntrance
+		}
+		if j-i > 1 || declared {
+			multi = append(multi, fmt.Sprintf("  %s: %s", t(r.Entrances[i].Building), escape.TerminalList(ids)))
+		}
+		i = j
+	}
+	fmt.Fprintf(w, "entrances   %d (%d buildings with more than one, or declared ones)\n", len(r.Entrances), len(multi))
+	for _, m := range multi {
+		fmt.Fprintln(w, m)
+	}
+	fmt.Fprintf(w, "turns       %d junctions where a turn between pathways needs a structure built\n", len(r.Turns))
+	if len(r.Turns) > 0 {
+		fmt.Fprintf(w, "  %s\n", escape.TerminalList(r.Turns))
+	}
+	fmt.Fprintf(w, "near misses %d\n", len(r.NearMisses))
+	for _, m := range r.NearMisses {
+		fmt.Fprintf(w, "  %s\n", t(m))
+	}
 	fmt.Fprintf(w, "warnings    %d\n", len(r.Warnings))
 	for _, m := range r.Warnings {
 		fmt.Fprintf(w, "  warning: %s\n", t(m))

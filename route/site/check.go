@@ -2,6 +2,7 @@ package site
 
 import (
 	"sort"
+	"spanwright/geo"
 
 	"gonum.org/v1/gonum/graph/topo"
 )
@@ -18,7 +19,17 @@ type CheckReport struct {
 	Hub         string   // "" when none could be resolved
 	Unreachable []string // buildings with no path to the hub
 	CutOff      []string // for each of Unreachable, in its order, why (Site.CutOff)
-	Warnings    []string
+	// ThroughOnly lists the buildings that reach the hub only through another building routes
+	// may not cross (Site.ThroughOnly).
+	ThroughOnly []string
+	// Entrances lists every building's entrances, by building then entrance ID.
+	Entrances []geo.Entry
+	// Turns lists the junctions where a turn from one pathway into another needs a structure
+	// built (Site.TurnsNeedingStructure).
+	Turns []string
+	// NearMisses lists the pathway ends that just miss a pathway or footprint (geo.NearMiss).
+	NearMisses []string
+	Warnings   []string
 }
 
 // PathwayTally counts pathways of one type and status and their length in metres.
@@ -84,6 +95,12 @@ func (s *Site) Check(hub string) CheckReport {
 		for _, b := range r.Unreachable {
 			r.CutOff = append(r.CutOff, s.CutOff(b, hub))
 		}
+		r.ThroughOnly = s.ThroughOnly(hub)
+	}
+	r.Entrances = s.Net.Entrances
+	r.Turns = s.TurnsNeedingStructure()
+	for _, m := range s.Net.NearMisses {
+		r.NearMisses = append(r.NearMisses, m.String())
 	}
 	for _, w := range s.Net.Warnings {
 		r.Warnings = append(r.Warnings, w.File+": "+w.Feature+": "+w.Message)

@@ -1,12 +1,9 @@
 package site
 
 import (
-	"fmt"
-	"slices"
 	"spanwright/geo"
 	"spanwright/geo/input"
 	"spanwright/route/plan"
-	"strings"
 )
 
 // JunctionsOf lists the junction IDs along steps: the start, then the end of every step.
@@ -98,22 +95,4 @@ func (s *Site) JoinsNetwork(j string) bool {
 		}
 	}
 	return true
-}
-
-// CutOff says in words why building b has no path to the hub: which part of the network it is
-// left in (its own, or none when no pathway reaches it). It is the reason every leg to b
-// carries, and what check reports.
-func (s *Site) CutOff(b, hub string) string {
-	a := s.Access(b)
-	if a.Junction == "" {
-		return fmt.Sprintf("building %s is cut off from the hub %s: no pathway reaches it (none ends on or within snap_m of its footprint, and none passes within max_lateral_m)", b, hub)
-	}
-	var ids []string
-	for _, sp := range s.Net.Spans {
-		if (sp.From == a.Junction || sp.To == a.Junction) && !slices.Contains(ids, sp.PathwayID) {
-			ids = append(ids, sp.PathwayID)
-		}
-	}
-	slices.Sort(ids)
-	return fmt.Sprintf("building %s is cut off from the hub %s: the pathways that reach it (%s) join none that reaches the hub", b, hub, strings.Join(ids, ", "))
 }

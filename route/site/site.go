@@ -3,7 +3,6 @@ package site
 import (
 	"context"
 	"io/fs"
-	"sort"
 	"sync"
 
 	lru "github.com/hashicorp/golang-lru/v2"
@@ -22,7 +21,9 @@ type Site struct {
 
 	building map[string]*geo.Building
 	access   map[string]geo.Access
-	dist     sync.Map // building ID → map[string]float64, see distancesFrom
+	junction map[string]int // junction ID → index in Net.Junctions
+	part     []int          // by junction index: its connected part of the network (components)
+	dist     sync.Map       // building ID → map[string]float64, see distancesFrom
 
 	// Solved keeps the optimizer's solutions of the routing problems solved on this site, by
 	// fingerprint of the canonical problem (see package routing), and Pulls the pull plans of
@@ -82,6 +83,11 @@ func NewSite(c *geo.Campus, net *geo.Network) *Site {
 	for _, a := range net.Access {
 		s.access[a.Building] = a
 	}
+	s.junction = make(map[string]int, len(net.Junctions))
+	for i, j := range net.Junctions {
+		s.junction[j.ID] = i
+	}
+	s.part = components(net, s.junction)
 	return s
 }
 
@@ -131,16 +137,15 @@ func (s *Site) computeDistances(id string) map[string]float64 {
 	return out
 }
 
-// Unreachable lists, sorted, the buildings that have no path to building hub.
+// Unreachable lists, sorted, the buildings that have no path to building hub: none of their
+// entrances is in a part of the pathway network that one of the hub's is in.
 func (s *Site) Unreachable(hub string) []string {
-	d := s.distancesFrom(hub)
 	var out []string
 	for _, b := range s.Campus.Buildings {
-		if _, ok := d[b.ID]; !ok && b.ID != hub {
+		if b.ID != hub && !s.Joined(b.ID, hub) {
 			out = append(out, b.ID)
 		}
 	}
-	sort.Strings(out)
 	return out
 }
 

@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 	"testing"
 
@@ -241,5 +242,69 @@ func TestPlenumRoute(t *testing.T) {
 		if k.PlenumRated != plenum {
 			t.Errorf("plenum %v: chose %s %s (plenum rated %v)", plenum, l.Medium, l.Construction, k.PlenumRated)
 		}
+	}
+}
+
+// factsCampus is a street duct S along y = 0 from x = 0 to 300 m on the pull grid; A (the hub)
+// is joined to it by lateral LA teeing off at (50, 0), where no structure is; B by lateral LB
+// at (150, 0), where handhole HH is; C is joined only by duct DC from inside B to inside C;
+// island I's duct DI ends 1 m short of S's end.
+func factsCampus(t *testing.T) *site.Site {
+	t.Helper()
+	duct := func(id string, pts ...float64) string {
+		var c []string
+		for i := 0; i+1 < len(pts); i += 2 {
+			c = append(c, fmt.Sprintf("[%.7f,%.7f]", testsite.X(pts[i]), testsite.Y(pts[i+1])))
+		}
+		return fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":%q,"type":"duct"},"geometry":{"type":"LineString","coordinates":[%s]}}`, id, strings.Join(c, ","))
+	}
+	f := []string{testsite.Box("A", "mc", 50, 25), testsite.Box("B", "", 150, 25), testsite.Box("C", "", 250, 25), testsite.Box("I", "", 400, 25),
+		duct("S", 0, 0, 50, 0, 150, 0, 300, 0), duct("LA", 50, 0, 50, 20), duct("LB", 150, 0, 150, 20),
+		duct("DC", 155, 20, 245, 20), duct("DI", 400, 20, 400, 0, 301, 0),
+		fmt.Sprintf(`{"type":"Feature","properties":{"kind":"structure","id":"HH","type":"handhole"},"geometry":{"type":"Point","coordinates":[%.7f,%.7f]}}`, testsite.X(150), testsite.Y(0))}
+	c, err := geo.Parse("facts.geojson", []byte(`{"type":"FeatureCollection","features":[`+strings.Join(f, ",")+`]}`))
+	if err != nil {
+		t.Fatal(err)
+	}
+	net, err := geo.Build(c, geo.Options{SnapM: 0.5})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return site.NewSite(c, net)
+}
+
+// TestSiteFacts: the campus facts check reports (issue 13). A tee of three ducts with no
+// structure is a turn that needs one built, a tee at a handhole is not (common practice, no
+// published source); C reaches the hub only through B; I is cut off, and the reason names the
+// near miss that would join it.
+func TestSiteFacts(t *testing.T) {
+	t.Parallel()
+	s := factsCampus(t)
+	var tee, hh string
+	for _, m := range s.Net.Meetings {
+		if slices.Contains(m.Pathways, "LA") && slices.Contains(m.Pathways, "S") {
+			tee = m.Junction
+		}
+		if slices.Contains(m.Pathways, "LB") {
+			hh = m.Junction
+		}
+	}
+	turns := s.TurnsNeedingStructure()
+	if tee == "" || !slices.Contains(turns, tee) || slices.Contains(turns, hh) {
+		t.Errorf("turns needing a structure: %q; want the tee %q and not the handhole %q", turns, tee, hh)
+	}
+	if got := s.ThroughOnly("A"); !slices.Equal(got, []string{"C"}) {
+		t.Errorf("reached only through another building: %q, want [C]", got)
+	}
+	if got, want := s.Through("C", "A"), `building C reaches the hub A only through B, which routes may not cross`; !strings.HasPrefix(got, want) {
+		t.Errorf("through reason:\n got %s\nwant %s…", got, want)
+	}
+	if got := s.Unreachable("A"); !slices.Equal(got, []string{"I"}) {
+		t.Fatalf("unreachable: %q, want [I]", got)
+	}
+	why := s.CutOff("I", "A")
+	const want = "building I is cut off from the hub A: the pathways that reach it (DI) join none that reaches the hub; near misses: pathway DI ends 1.0 m from pathway S, beyond snap_m 0.5"
+	if !strings.HasPrefix(why, want) {
+		t.Errorf("cut-off reason:\n got %s\nwant %s", why, want)
 	}
 }

@@ -1,0 +1,243 @@
+package site
+
+import (
+	"cmp"
+	"fmt"
+	"slices"
+	"strings"
+
+	"spanwright/geo"
+)
+
+// components labels every junction (by index in Net.Junctions) with its connected part of the
+// pathway network; junctions joined by spans share a label, and so do the entrances of one
+// building (a cable can go through a building: whether a route may is another question, see
+// ThroughOnly).
+func components(net *geo.Network, junction map[string]int) []int {
+	parent := make([]int, len(net.Junctions))
+	for i := range parent {
+		parent[i] = i
+	}
+	var find func(int) int
+	find = func(x int) int {
+		for parent[x] != x {
+			parent[x] = parent[parent[x]]
+			x = parent[x]
+		}
+		return x
+	}
+	join := func(x, y string) {
+		a, b := find(junction[x]), find(junction[y])
+		if a != b {
+			parent[max(a, b)] = min(a, b)
+		}
+	}
+	for _, sp := range net.Spans {
+		join(sp.From, sp.To)
+	}
+	for i := 1; i < len(net.Entrances); i++ {
+		if e, f := net.Entrances[i-1], net.Entrances[i]; e.Building == f.Building {
+			join(e.Junction, f.Junction)
+		}
+	}
+	for i := range parent {
+		parent[i] = find(i)
+	}
+	return parent
+}
+
+// partsOf lists the parts of the network (components labels) the building's entrances are in.
+func (s *Site) partsOf(b string) []int {
+	var out []int
+	for _, e := range s.Net.EntrancesOf(b) {
+		if j, ok := s.junction[e.Junction]; ok && !slices.Contains(out, s.part[j]) {
+			out = append(out, s.part[j])
+		}
+	}
+	if len(out) == 0 { // a building assembled by hand with an Access and no Entrances
+		if a, ok := s.access[b]; ok {
+			if j, ok := s.junction[a.Junction]; ok {
+				out = append(out, s.part[j])
+			}
+		}
+	}
+	return out
+}
+
+// Joined reports whether some entrance of building a and some entrance of building b are in
+// one part of the pathway network.
+func (s *Site) Joined(a, b string) bool {
+	pb := s.partsOf(b)
+	for _, p := range s.partsOf(a) {
+		if slices.Contains(pb, p) {
+			return true
+		}
+	}
+	return false
+}
+
+// nearMissesOf lists the near misses that could join building b's parts of the network to
+// the rest: a dangling end in one of them, or an end elsewhere that misses a pathway in one of
+// them or misses b itself; nearest first, at most n.
+func (s *Site) nearMissesOf(b string, n int) []geo.NearMiss {
+	parts := s.partsOf(b)
+	in := func(junction string) bool {
+		j, ok := s.junction[junction]
+		return ok && slices.Contains(parts, s.part[j])
+	}
+	pathwayIn := func(id string) bool {
+		for _, sp := range s.Net.Spans {
+			if sp.PathwayID == id && (in(sp.From) || in(sp.To)) {
+				return true
+			}
+		}
+		return false
+	}
+	var out []geo.NearMiss
+	for _, m := range s.Net.NearMisses {
+		if in(m.Junction) || (m.Kind == geo.KindBuilding && m.Target == b) || (m.Kind == geo.KindPathway && pathwayIn(m.Target)) {
+			out = append(out, m)
+		}
+	}
+	slices.SortStableFunc(out, func(x, y geo.NearMiss) int { return cmp.Compare(x.DistanceM, y.DistanceM) })
+	return out[:min(n, len(out))]
+}
+
+// TurnsNeedingStructure lists, by junction ID, the junctions where three or more spans of
+// different pathways meet with no structure and no building: a route that turns there from one
+// pathway into another needs a handhole or pull box built (geo.PassNeedsStructure).
+func (s *Site) TurnsNeedingStructure() []string {
+	var out []string
+	for _, m := range s.Net.Meetings {
+		if m.Degree < 3 || m.Structure || len(m.Buildings) > 0 {
+			continue
+		}
+		if slices.ContainsFunc(m.Pathways, func(p string) bool { return p != m.Pathways[0] }) {
+			out = append(out, m.Junction)
+		}
+	}
+	return out
+}
+
+// ThroughOnly lists, sorted, the buildings that can reach the hub only by passing through
+// another building that routes may not cross (in at one entrance, out at another; see
+// geo.Transit): every path from them to the hub enters some other building first.
+func (s *Site) ThroughOnly(hub string) []string {
+	seen, _ := s.search(hub, hub)
+	var out []string
+	for _, b := range s.Campus.Buildings {
+		if b.ID == hub || !s.Joined(b.ID, hub) {
+			continue
+		}
+		if !slices.ContainsFunc(s.Net.EntrancesOf(b.ID), func(e geo.Entry) bool { return seen[e.Junction] }) {
+			out = append(out, b.ID)
+		}
+	}
+	return out
+}
+
+// Through says in words why building b reaches the hub only through other buildings: which
+// buildings stand in the way, and how to let routes cross one. It is the reason every leg to b
+// carries when no route reaches it.
+func (s *Site) Through(b, hub string) string {
+	_, blockers := s.search(b, hub)
+	return fmt.Sprintf("building %s reaches the hub %s only through %s, which routes may not cross: draw the pathway through the building (a tunnel or tray inside it) or give it the property %q: true",
+		b, hub, strings.Join(blockers, ", "), geo.PropTransit)
+}
+
+// search walks the network from the entrances of building from, along spans and between the
+// entrances of from, of the hub and of buildings routes may cross; it stops at the entrances
+// of every other building. It returns the junctions it reached and, sorted, the buildings
+// whose entrances stopped it.
+func (s *Site) search(from, hub string) (map[string]bool, []string) {
+	open := func(b string) bool {
+		t, ok := s.Net.TransitOf(b)
+		return b == from || b == hub || (ok && t.Allowed)
+	}
+	adj := map[string][]string{}
+	link := func(x, y string) {
+		adj[x] = append(adj[x], y)
+		adj[y] = append(adj[y], x)
+	}
+	for _, sp := range s.Net.Spans {
+		link(sp.From, sp.To)
+	}
+	for i := 1; i < len(s.Net.Entrances); i++ {
+		if e, f := s.Net.Entrances[i-1], s.Net.Entrances[i]; e.Building == f.Building && open(e.Building) {
+			link(e.Junction, f.Junction)
+		}
+	}
+	seen := map[string]bool{}
+	var queue, blockers []string
+	for _, e := range s.Net.EntrancesOf(from) {
+		if !seen[e.Junction] {
+			seen[e.Junction] = true
+			queue = append(queue, e.Junction)
+		}
+	}
+	for len(queue) > 0 {
+		j := queue[0]
+		queue = queue[1:]
+		if m, ok := s.Net.MeetingAt(j); ok {
+			stop := false
+			for _, b := range m.Buildings {
+				if !open(b) {
+					stop = true
+					if !slices.Contains(blockers, b) {
+						blockers = append(blockers, b)
+					}
+				}
+			}
+			if stop && !slices.ContainsFunc(s.Net.EntrancesOf(from), func(e geo.Entry) bool { return e.Junction == j }) {
+				continue // reached, not passed
+			}
+		}
+		for _, k := range adj[j] {
+			if !seen[k] {
+				seen[k] = true
+				queue = append(queue, k)
+			}
+		}
+	}
+	slices.Sort(blockers)
+	return seen, blockers
+}
+
+// CutOff says in words why building b has no path to the hub, and what might join it: the
+// pathways that reach it, and the nearest pathway ends that just miss joining its part of the
+// network to another (geo.NearMiss). It is the reason every leg to b carries, and what check
+// reports.
+func (s *Site) CutOff(b, hub string) string {
+	var ids []string
+	for _, e := range s.Net.EntrancesOf(b) {
+		for _, sp := range s.Net.Spans {
+			if (sp.From == e.Junction || sp.To == e.Junction) && !slices.Contains(ids, sp.PathwayID) {
+				ids = append(ids, sp.PathwayID)
+			}
+		}
+	}
+	if len(ids) == 0 {
+		if a, ok := s.access[b]; ok {
+			for _, sp := range s.Net.Spans {
+				if (sp.From == a.Junction || sp.To == a.Junction) && !slices.Contains(ids, sp.PathwayID) {
+					ids = append(ids, sp.PathwayID)
+				}
+			}
+		}
+	}
+	slices.Sort(ids)
+	var why string
+	if len(ids) == 0 {
+		why = fmt.Sprintf("building %s is cut off from the hub %s: no pathway reaches it (none ends on or within snap_m of its footprint, and none passes within max_lateral_m)", b, hub)
+	} else {
+		why = fmt.Sprintf("building %s is cut off from the hub %s: the pathways that reach it (%s) join none that reaches the hub", b, hub, strings.Join(ids, ", "))
+	}
+	if misses := s.nearMissesOf(b, 3); len(misses) > 0 {
+		texts := make([]string, len(misses))
+		for i, m := range misses {
+			texts[i] = m.String()
+		}
+		why += "; near misses: " + strings.Join(texts, "; ")
+	}
+	return why
+}
