@@ -396,7 +396,7 @@ func TestMaxChannelM(t *testing.T) {
 		{"policy: om3 25G", EngineOptions{}, nil, "om3", 25, 0, two, 200.0 / 3.5},                                                   // IEEE 802.3 Clause 112, 1.8 dB (seen): (1.8-1.6)/3.5 km
 		{"policy: om4 40G on OM3's pair", EngineOptions{}, nil, "om4", 40, 0, two, 300.0 / 3.5},                                     // IEEE 802.3 Clause 86, OM3 1.9 dB (memory): (1.9-1.6)/3.5 km
 		{"policy: om4 40G factory-terminated", EngineOptions{Termination: TerminationFactory}, nil, "om4", 40, 0, two, 500.0 / 3.5}, // IEEE 802.3 Clause 86: OM4's own 1.5 dB (seen) gives (1.5-1.0)/3.5 km, beyond OM3's 100 m
-		{"policy: os2 10G outdoors", EngineOptions{}, nil, "os2", 10, 0, out, 11000},                                                // computed: 10GBASE-ER, 11 repair splices at 11 km: 11-1.6-(0.5+11 x 0.3)-5.5 = 0.1 dB left; a 12th past 11 km does not fit
+		{"policy: os2 10G outdoors", EngineOptions{}, nil, "os2", 10, 0, out, 13600},                                                // computed: 10GBASE-ER with 7 repair splices (0.5 per km) at 13.6 km: 11-1.6-(0.5+7 x 0.3)-6.8 = 0 dB left
 		{"policy: os2 100G indoors", EngineOptions{}, nil, "os2", 100, 0, two, 31800},                                               // computed: 100GBASE-ER4 (18-1.6-0.5)/0.5 km, no repair splices inside
 		{"unknown medium", EngineOptions{}, nil, "om9", 10, 0, two, 0},
 	}

@@ -66,7 +66,7 @@ func ExampleCatalog_Table() {
 	// 40GBASE-SR4  40G   850            8 fibres  om5     150      1.50                 0.00                 lime green
 	// 40GBASE-LR4  40G   1310           2 fibres  os2     10000    6.70                 0.00                 yellow
 	// connections: field acceptance (ANSI/TIA-568.3-D maxima) mated pair 0.75 dB, splice 0.30 dB; design mated pair 0.50 dB, splice 0.30 dB
-	// margins: multimode 0.00 dB; single-mode 0.50 dB and an allowance of 1 repair splices per km of outside plant
+	// margins: multimode 0.00 dB; single-mode 0.50 dB and an allowance of 0.5 repair splices per km of outside plant
 	// higher grades: om4 also uses om3's figures; om5 also uses om4's figures
 	// ranges and losses per IEEE 802.3, see catalog.yaml (embedded)
 }
