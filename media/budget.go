@@ -95,39 +95,30 @@ func (b *budget) marginDB() (float64, bool) {
 // higher grade that meets a lower one never does worse. A channel losing less than a's
 // minimum gets the smallest attenuator the price book prices that makes it up.
 func (e *Engine) budgetFor(k *Construction, a *Application, reaches []Reach, channelM float64, pairs, splices int, requiredDB float64) budget {
-	var best budget
-	bestScore := -1
-	for i, r := range reaches {
-		b := budget{r: r, requiredDB: requiredDB,
-			losses: Losses(k, a, r, channelM, pairs, splices, e.design, e.field)}
-		if len(b.losses) == 0 { // copper: no loss budget, one reach
-			return b
+	b := budget{r: reaches[0], requiredDB: requiredDB,
+		losses: Losses(k, a, reaches[0], channelM, pairs, splices, e.design, e.field)}
+	if len(b.losses) == 0 { // copper: no loss budget, one reach
+		return b
+	}
+	// The losses do not depend on the pair; the limit and margin do.
+	least, most := math.Inf(1), math.Inf(-1)
+	for _, x := range b.losses {
+		if x.Operating {
+			least, most = min(least, x.LossDB), max(most, x.LossDB)
 		}
-		least := math.Inf(1)
-		for _, x := range b.losses {
-			if x.Operating {
-				least = min(least, x.LossDB)
-			}
+	}
+	b.leastDB = least
+	if need := roundDB(a.MinLossDB - least); need > 0 {
+		if v, cents, ok := e.attenuatorFor(need); ok {
+			b.attDB, b.attN, b.attCents = v, a.Strands, int64(a.Strands)*cents
+		} else {
+			b.overloadDB = need
 		}
-		b.leastDB = least
-		if need := roundDB(a.MinLossDB - least); need > 0 {
-			if v, cents, ok := e.attenuatorFor(need); ok {
-				b.attDB, b.attN, b.attCents = v, a.Strands, int64(a.Strands)*cents
-			} else {
-				b.overloadDB = need
-			}
-		}
-		for j := range b.losses {
-			x := &b.losses[j]
-			x.Pairs, x.Splices = pairs, splices
-			if x.Operating {
-				x.AttenuatorDB = float64(b.attDB)
-				x.LossDB = roundDB(x.LossDB + x.AttenuatorDB)
-				x.MarginDB = roundDB(x.LimitDB - x.LossDB)
-				x.RequiredMarginDB = requiredDB
-			}
-		}
-		margin, _ := b.marginDB()
+	}
+	worst := roundDB(most + float64(b.attDB))
+	bestScore, bestMargin := -1, 0.0
+	for _, r := range reaches {
+		margin := roundDB(r.MaxLossDB - worst)
 		score := 0
 		if r.RangeM >= channelM {
 			score = 1
@@ -135,18 +126,22 @@ func (e *Engine) budgetFor(k *Construction, a *Application, reaches []Reach, cha
 				score = 2
 			}
 		}
-		if i == 0 || score > bestScore {
-			best, bestScore = b, score
-			continue
-		}
-		if score == bestScore {
-			bm, _ := best.marginDB()
-			if margin > bm || (margin == bm && r.RangeM > best.r.RangeM) {
-				best = b
-			}
+		if score > bestScore || (score == bestScore && (margin > bestMargin || (margin == bestMargin && r.RangeM > b.r.RangeM))) {
+			b.r, bestScore, bestMargin = r, score, margin
 		}
 	}
-	return best
+	for j := range b.losses {
+		x := &b.losses[j]
+		x.Pairs, x.Splices = pairs, splices
+		if x.Operating {
+			x.AttenuatorDB = float64(b.attDB)
+			x.LossDB = roundDB(x.LossDB + x.AttenuatorDB)
+			x.LimitDB = b.r.MaxLossDB
+			x.MarginDB = roundDB(x.LimitDB - x.LossDB)
+			x.RequiredMarginDB = requiredDB
+		}
+	}
+	return b
 }
 
 // longestRange is the longest operating range among reaches, in metres.

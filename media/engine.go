@@ -309,9 +309,10 @@ func blend(k, inside *Construction, insideM, lengthM float64) *Construction {
 }
 
 // strandsFor is what a link needs of application a on medium m: the link's strands but at
-// least the application's. On copper the count is of 4-pair cables, one per duplex channel
-// the strands would carry, i.e. half the strands rounded up (common practice, no published
-// source: a backbone channel is one fibre pair or one 4-pair cable).
+// least the application's. On copper the count is of 4-pair cables: Link.CopperCables, one per
+// port pair the link asks for, or else one per duplex channel the strands would carry, i.e. half
+// the strands rounded up (common practice, no published source: a backbone channel is one fibre
+// pair or one 4-pair cable).
 func strandsFor(l Link, a *Application, m *Medium) int {
 	n := l.Strands
 	if m.Kind == KindCopper {
@@ -833,15 +834,17 @@ func (e *Engine) feasibleAt(l Link, mi int, channelM float64) bool {
 
 // MaxChannelM is the longest channel in metres over which medium can carry rateGbps, and
 // futureRateGbps when it is > 0, for a link with l's other facts (connector pairs, splices,
-// EMI, outdoor, plenum, risers, slack; l's rates and route length are ignored). It honours every
-// rule of the engine: the applications' reach, the multimode 2 km cap, the copper 100 m
-// cap and the loss budget solved for length, as the default rules state them. It never
-// exceeds the longest operating range of an application at the rate on the medium. It
-// returns 0 when the medium never carries the rate for such a link, or is unknown.
+// EMI, outdoor, plenum, risers, slack, inside lengths; l's rates and route length are ignored).
+// It honours every rule of the engine: the applications' reach (a higher grade's and the grades
+// it meets), the multimode 2 km cap, the copper 90 m installed and 100 m channel caps and the
+// loss budget solved for length with the margin policy, repair splices and attenuators, as the
+// default rules state them. It never exceeds the longest operating range of an application at
+// the rate on the medium. It returns 0 when the medium never carries the rate for such a link,
+// or is unknown.
 func (e *Engine) MaxChannelM(medium string, rateGbps, futureRateGbps float64, l Link) float64 {
 	k := maxKey{medium: medium, rate: rateGbps, future: futureRateGbps, riser: l.RiserM, slack: l.SlackM,
 		emi: l.MaxEMI, outdoor: l.Outdoor, plenum: l.Plenum, types: strings.Join(l.PathwayTypes, ","), pairs: l.ConnectorPairs,
-		splices: l.Splices, strands: l.Strands, copper: l.CopperCables, insideA: l.InsideAM, insideB: l.InsideBM, routed: l.Outdoor && l.InsideAM == 0 && l.InsideBM == 0}
+		splices: l.Splices, strands: l.Strands, copper: l.CopperCables, insideA: l.InsideAM, insideB: l.InsideBM}
 	if v, ok := e.maxMemo.Get(k); ok {
 		return v
 	}
@@ -860,7 +863,6 @@ type maxKey struct {
 	pairs, splices, strands    int
 	copper                     int
 	insideA, insideB           float64
-	routed                     bool
 }
 
 func (e *Engine) maxChannelM(medium string, rateGbps, futureRateGbps float64, l Link) float64 {
