@@ -30,11 +30,32 @@ const (
 // applications that run on them, and the connection loss defaults. Media and Applications
 // keep file order, which is the tie-break order of the rule engine.
 type Catalog struct {
-	File         string
-	MatedPairDB  float64 // loss of one mated connector pair, in dB (TIA-568.3-D maximum by default)
-	SpliceDB     float64 // loss of one splice, in dB
+	File string
+	// The connection losses of field acceptance: ANSI/TIA-568.3-D's maxima for one mated
+	// connector pair and one splice, in dB, which the limits of a loss test set use.
+	MatedPairDB float64
+	SpliceDB    float64
+	// The connection losses a designer plans with: those of the specified components, in dB.
+	// A plan may override them (EngineOptions).
+	DesignPairDB   float64
+	DesignSpliceDB float64
+	// Margins is the margin policy: what each class of link keeps below its application's
+	// channel insertion loss.
+	Margins      MarginPolicy
 	Media        []*Medium
 	Applications []*Application
+}
+
+// MarginPolicy is the loss margin each class of fibre link keeps below its application's
+// maximum channel insertion loss, on top of the design losses. IEEE 802.3's channel insertion
+// loss already holds its own connection allowance (1.5 dB multimode, 2.0 dB single-mode), so
+// a margin here is what the designer keeps beyond the components specified.
+type MarginPolicy struct {
+	MultimodeDB  float64 // multimode links, in dB
+	SinglemodeDB float64 // single-mode links, in dB
+	// RepairSplicesPerKm is the allowance of future repair splices per km of outside plant on
+	// single-mode links (rounded up per link), at the design splice loss.
+	RepairSplicesPerKm float64
 }
 
 // Medium is one cable medium, e.g. "om4".
@@ -46,7 +67,12 @@ type Medium struct {
 	// Constructions in file order; a fibre medium's attenuation lives on each construction,
 	// because single-mode maxima differ between inside and outside plant.
 	Constructions []*Construction
-	Line          int // line in the catalog file, for messages
+	// Meets lists the media whose application tables this one may use too (the catalog's
+	// grades): a higher multimode grade meets every figure of a lower one (OM4 an OM3
+	// channel's, OM5 an OM4's), so an application's reach and loss pair for the lower grade
+	// holds on it as well.
+	Meets []string
+	Line  int // line in the catalog file, for messages
 }
 
 // Fibre reports whether m is an optical fibre medium.
@@ -138,8 +164,12 @@ type Application struct {
 	WavelengthsNM []int // operating wavelengths, ascending; empty for copper
 	Strands       int   // fibres used (2 duplex, 8 parallel), or 4-pair cables for copper
 	Transceiver   string
-	Reach         []Reach // in file order
-	Line          int     // line in the catalog file, for messages
+	// MinLossDB is the least channel insertion loss the receiver takes, in dB: the transmitter's
+	// largest launch power less the receiver's largest input power; 0 when the receiver takes
+	// the largest launch. A channel with less loss needs an attenuator.
+	MinLossDB float64
+	Reach     []Reach // in file order
+	Line      int     // line in the catalog file, for messages
 }
 
 // Reach is an application's operating range and channel insertion loss on one medium.
@@ -157,6 +187,30 @@ func (a *Application) On(medium string) (Reach, bool) {
 		}
 	}
 	return Reach{}, false
+}
+
+// ReachesOn is every reach-and-loss pair application a may use on medium: its own entry for
+// the medium first, then those of the media the medium meets (Medium.Meets), transitively,
+// in that order; empty when a runs on none of them. Reach.Medium names the table used.
+func (c *Catalog) ReachesOn(a *Application, medium string) []Reach {
+	var out []Reach
+	seen := map[string]bool{}
+	queue := []string{medium}
+	for len(queue) > 0 {
+		id := queue[0]
+		queue = queue[1:]
+		if seen[id] {
+			continue
+		}
+		seen[id] = true
+		if r, ok := a.On(id); ok {
+			out = append(out, r)
+		}
+		if m := c.Medium(id); m != nil {
+			queue = append(queue, m.Meets...)
+		}
+	}
+	return out
 }
 
 // Medium returns the medium with the given id, or nil.
@@ -281,17 +335,28 @@ func LoadCatalog(path string) (*Catalog, error) {
 
 // The catalog file as written; see catalog.yaml for the meaning of each key.
 type catalogFile struct {
-	Pos          pos               `yaml:"-"`
-	Shared       yaml.Node         `yaml:"shared"`
-	Connections  connectionsYAML   `yaml:"connections"`
-	Media        []mediumYAML      `yaml:"media" item:"medium"`
-	Applications []applicationYAML `yaml:"applications" item:"application"`
+	Pos          pos                 `yaml:"-"`
+	Shared       yaml.Node           `yaml:"shared"`
+	Connections  connectionsYAML     `yaml:"connections"`
+	Margins      marginsYAML         `yaml:"margins"`
+	Grades       map[string][]string `yaml:"grades"`
+	Media        []mediumYAML        `yaml:"media" item:"medium"`
+	Applications []applicationYAML   `yaml:"applications" item:"application"`
 }
 
 type connectionsYAML struct {
-	Pos         pos     `yaml:"-"`
-	MatedPairDB float64 `yaml:"mated_pair_db" range:"db"`
-	SpliceDB    float64 `yaml:"splice_db" range:"db"`
+	Pos            pos     `yaml:"-"`
+	MatedPairDB    float64 `yaml:"mated_pair_db" range:"db"`
+	SpliceDB       float64 `yaml:"splice_db" range:"db"`
+	DesignPairDB   float64 `yaml:"design_pair_db" range:"db"`
+	DesignSpliceDB float64 `yaml:"design_splice_db" range:"db"`
+}
+
+type marginsYAML struct {
+	Pos                pos     `yaml:"-"`
+	MultimodeDB        float64 `yaml:"multimode_db" range:"db"`
+	SinglemodeDB       float64 `yaml:"singlemode_db" range:"db"`
+	RepairSplicesPerKm float64 `yaml:"repair_splices_per_km" range:"per-km"`
 }
 
 type mediumYAML struct {
@@ -334,6 +399,7 @@ type applicationYAML struct {
 	WavelengthsNM []int       `yaml:"wavelengths_nm" range:"nm"`
 	Strands       int         `yaml:"strands" range:"count"`
 	Transceiver   string      `yaml:"transceiver"`
+	MinLossDB     float64     `yaml:"min_loss_db" range:"db"`
 	Media         []reachYAML `yaml:"media" item:"on"`
 }
 
@@ -413,14 +479,27 @@ func ParseCatalog(name string, data []byte) (*Catalog, error) {
 		return nil, sorted(&errs)
 	}
 	c := checker{file: name, errs: &errs}
-	cat := &Catalog{File: name, MatedPairDB: f.Connections.MatedPairDB, SpliceDB: f.Connections.SpliceDB}
+	cn := f.Connections
+	cat := &Catalog{File: name, MatedPairDB: cn.MatedPairDB, SpliceDB: cn.SpliceDB,
+		DesignPairDB: cn.MatedPairDB, DesignSpliceDB: cn.SpliceDB,
+		Margins: MarginPolicy{MultimodeDB: f.Margins.MultimodeDB, SinglemodeDB: f.Margins.SinglemodeDB,
+			RepairSplicesPerKm: f.Margins.RepairSplicesPerKm}}
+	// A catalog without design values plans with the acceptance maxima.
+	if cn.Pos.Has("design_pair_db") {
+		cat.DesignPairDB = cn.DesignPairDB
+	}
+	if cn.Pos.Has("design_splice_db") {
+		cat.DesignSpliceDB = cn.DesignSpliceDB
+	}
 	c.require(f.Pos, "", "connections", "media", "applications")
-	if f.Pos.Has("connections") && c.require(f.Connections.Pos, "connections", "mated_pair_db", "splice_db") {
-		if cat.MatedPairDB < 0 {
-			c.bad(f.Connections.Pos, "connections", "mated_pair_db", ErrBadValue, "want dB >= 0, got %g", cat.MatedPairDB)
-		}
-		if cat.SpliceDB < 0 {
-			c.bad(f.Connections.Pos, "connections", "splice_db", ErrBadValue, "want dB >= 0, got %g", cat.SpliceDB)
+	if f.Pos.Has("connections") && c.require(cn.Pos, "connections", "mated_pair_db", "splice_db") {
+		for _, v := range []struct {
+			key string
+			db  float64
+		}{{"mated_pair_db", cn.MatedPairDB}, {"splice_db", cn.SpliceDB}, {"design_pair_db", cn.DesignPairDB}, {"design_splice_db", cn.DesignSpliceDB}} {
+			if v.db < 0 {
+				c.bad(cn.Pos, "connections", v.key, ErrBadValue, "want dB >= 0, got %g", v.db)
+			}
 		}
 	}
 	seen := map[string]int{}
@@ -441,6 +520,7 @@ func ParseCatalog(name string, data []byte) (*Catalog, error) {
 		seen[m.ID] = my.Pos.Line
 		cat.Media = append(cat.Media, m)
 	}
+	c.grades(f.Pos, f.Grades, cat, declared)
 	seenApp := map[string]int{}
 	for i, ay := range f.Applications {
 		item := "application " + itemLabel(ay.Name, i)
@@ -459,6 +539,38 @@ func ParseCatalog(name string, data []byte) (*Catalog, error) {
 		return nil, err
 	}
 	return cat, nil
+}
+
+// grades sets Medium.Meets from the catalog's grades section, checking that each entry names
+// a medium and other media of its kind.
+func (c checker) grades(p pos, grades map[string][]string, cat *Catalog, declared map[string]bool) {
+	for _, id := range sortedStrings(grades) {
+		m := cat.Medium(id)
+		if m == nil {
+			if !declared[id] {
+				c.badPath(p, "grades", []string{id}, "no medium %q in the catalog", id)
+			}
+			continue
+		}
+		ok := true
+		for _, lower := range grades[id] {
+			o := cat.Medium(lower)
+			switch {
+			case o == nil:
+				c.badPath(p, "grades", []string{id}, "no medium %q in the catalog", lower)
+				ok = false
+			case o == m:
+				c.badPath(p, "grades", []string{id}, "a medium meets its own figures; name a lower grade")
+				ok = false
+			case o.Kind != m.Kind:
+				c.badPath(p, "grades", []string{id}, "%q is %s, %q is %s: a medium meets only media of its kind", id, m.Kind, lower, o.Kind)
+				ok = false
+			}
+		}
+		if ok {
+			m.Meets = append([]string(nil), grades[id]...)
+		}
+	}
 }
 
 func itemLabel(id string, i int) string {
@@ -653,7 +765,7 @@ func (c checker) application(ay applicationYAML, item string, cat *Catalog, decl
 	}
 	ok := true
 	a := &Application{Name: ay.Name, Clause: ay.Clause, RateGbps: ay.RateGbps, Strands: ay.Strands,
-		Transceiver: ay.Transceiver, Line: ay.Pos.Line}
+		Transceiver: ay.Transceiver, MinLossDB: ay.MinLossDB, Line: ay.Pos.Line}
 	if ay.RateGbps <= 0 {
 		c.bad(ay.Pos, item, "rate_gbps", ErrBadValue, "want Gbit/s > 0, got %g", ay.RateGbps)
 		ok = false
@@ -746,14 +858,16 @@ func (c checker) application(ay applicationYAML, item string, cat *Catalog, decl
 
 // Table writes the reach-and-loss table: one row per application and medium, in catalog
 // order, with rate, operating wavelengths, fibres or cables used, operating range in metres,
-// maximum channel insertion loss in dB and the medium's TIA-598 jacket colour. rateGbps 0
-// lists every rate; any other rate must be one the catalog offers.
+// maximum channel insertion loss in dB, the least loss the receiver takes in dB and the
+// medium's TIA-598 jacket colour; then the connection losses (field and design), the margin
+// policy and the grades that meet lower ones. rateGbps 0 lists every rate; any other rate
+// must be one the catalog offers.
 func (c *Catalog) Table(w io.Writer, rateGbps float64) error {
 	if rateGbps != 0 && !containsRate(c.Rates(), rateGbps) {
 		return input.Errorf(ErrBadValue, "no application runs at %s; the catalog has %s", FormatRate(rateGbps), rateList(c.Rates()))
 	}
 	tw := tabwriter.NewWriter(w, 0, 8, 2, ' ', 0)
-	fmt.Fprintln(tw, "application\trate\twavelength nm\tuses\tmedium\trange m\tmax channel loss dB\tjacket")
+	fmt.Fprintln(tw, "application\trate\twavelength nm\tuses\tmedium\trange m\tmax channel loss dB\tmin channel loss dB\tjacket")
 	for _, a := range c.Applications {
 		if rateGbps != 0 && a.RateGbps != rateGbps {
 			continue
@@ -763,23 +877,39 @@ func (c *Catalog) Table(w io.Writer, rateGbps float64) error {
 			if !ok {
 				continue
 			}
-			wl, uses, loss, jacket := "-", fmt.Sprintf("%d x 4-pair cable", a.Strands), "-", "-"
+			wl, uses, loss, least, jacket := "-", fmt.Sprintf("%d x 4-pair cable", a.Strands), "-", "-", "-"
 			if m.Fibre() {
 				wl = joinInts(a.WavelengthsNM, "/")
 				uses = fmt.Sprintf("%d fibres", a.Strands)
 				loss = fmt.Sprintf("%.2f", r.MaxLossDB)
+				least = fmt.Sprintf("%.2f", a.MinLossDB)
 			}
 			if m.JacketColour != "" {
 				jacket = m.JacketColour
 			}
-			fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%.0f\t%s\t%s\n", a.Name, FormatRate(a.RateGbps), wl, uses, m.ID, r.RangeM, loss, jacket)
+			fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%.0f\t%s\t%s\t%s\n", a.Name, FormatRate(a.RateGbps), wl, uses, m.ID, r.RangeM, loss, least, jacket)
 		}
 	}
 	if err := tw.Flush(); err != nil {
 		return err
 	}
-	_, err := fmt.Fprintf(w, "connections: mated pair %.2f dB, splice %.2f dB; ranges and losses per IEEE 802.3, see %s\n",
-		c.MatedPairDB, c.SpliceDB, c.File)
+	var meets []string
+	for _, m := range c.Media {
+		if len(m.Meets) > 0 {
+			meets = append(meets, m.ID+" also uses "+strings.Join(m.Meets, ", ")+"'s figures")
+		}
+	}
+	lines := []string{
+		fmt.Sprintf("connections: field acceptance (ANSI/TIA-568.3-D maxima) mated pair %.2f dB, splice %.2f dB; design mated pair %.2f dB, splice %.2f dB",
+			c.MatedPairDB, c.SpliceDB, c.DesignPairDB, c.DesignSpliceDB),
+		fmt.Sprintf("margins: multimode %.2f dB; single-mode %.2f dB and an allowance of %g repair splices per km of outside plant",
+			c.Margins.MultimodeDB, c.Margins.SinglemodeDB, c.Margins.RepairSplicesPerKm),
+	}
+	if len(meets) > 0 {
+		lines = append(lines, "higher grades: "+strings.Join(meets, "; "))
+	}
+	lines = append(lines, "ranges and losses per IEEE 802.3, see "+c.File)
+	_, err := io.WriteString(w, strings.Join(lines, "\n")+"\n")
 	return err
 }
 

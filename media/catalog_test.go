@@ -21,30 +21,43 @@ func TestCatalogReachIEEE(t *testing.T) {
 		rangeM      float64
 		lossDB      float64
 	}{
-		{"1000BASE-T", "cat6a", 100, 0},     // IEEE 802.3 Clause 40 on an ANSI/TIA-568.2 channel (seen)
-		{"10GBASE-T", "cat6a", 100, 0},      // IEEE 802.3 Clause 55 on Cat 6A (seen)
-		{"1000BASE-SX", "om3", 550, 3.56},   // IEEE 802.3 Clause 38, OM2 values used for OM3 (seen)
-		{"1000BASE-SX", "om4", 550, 3.56},   // IEEE 802.3 Clause 38, OM2 values used for OM4 (seen)
-		{"1000BASE-SX", "om5", 550, 3.56},   // OM4's values for OM5 (from memory)
-		{"1000BASE-LX", "os2", 5000, 4.5},   // IEEE 802.3 Clause 38 (seen)
-		{"10GBASE-SR", "om3", 300, 2.6},     // IEEE 802.3 Clause 52: range seen, CIL from memory
-		{"10GBASE-SR", "om4", 400, 2.9},     // IEEE 802.3 Clause 52, 10GBASE-SR on OM4 (seen)
-		{"10GBASE-SR", "om5", 400, 2.9},     // OM4's values for OM5 (from memory)
-		{"10GBASE-LR", "os2", 10000, 6.2},   // IEEE 802.3 Clause 52 (from memory)
-		{"10GBASE-ER", "os2", 30000, 11},    // IEEE 802.3 Clause 52 (seen)
-		{"25GBASE-SR", "om3", 70, 1.8},      // IEEE 802.3 Clause 112 (seen)
-		{"25GBASE-SR", "om4", 100, 1.9},     // IEEE 802.3 Clause 112 (seen)
-		{"25GBASE-SR", "om5", 100, 1.9},     // IEEE 802.3 Clause 112 (seen)
-		{"25GBASE-LR", "os2", 10000, 6.3},   // IEEE 802.3 Clause 114: reach seen, CIL from memory
-		{"40GBASE-SR4", "om3", 100, 1.9},    // IEEE 802.3 Clause 86: reach seen, CIL from memory
-		{"40GBASE-SR4", "om4", 150, 1.5},    // IEEE 802.3 Clause 86 (seen)
-		{"40GBASE-SR4", "om5", 150, 1.5},    // OM4's values for OM5 (from memory)
-		{"40GBASE-LR4", "os2", 10000, 6.7},  // IEEE 802.3 Clause 87 (seen)
-		{"100GBASE-SR4", "om3", 70, 1.8},    // IEEE 802.3 Clause 95: OM3 reach seen, CIL from memory
-		{"100GBASE-SR4", "om4", 100, 1.9},   // IEEE 802.3 Clause 95 (from memory)
-		{"100GBASE-SR4", "om5", 100, 1.9},   // IEEE 802.3 Clause 95 (from memory)
-		{"100GBASE-LR4", "os2", 10000, 6.3}, // IEEE 802.3 Clause 88 (from memory)
-		{"100GBASE-ER4", "os2", 40000, 18},  // IEEE 802.3 Clause 88, 30 km plus engineered links (seen)
+		{"1000BASE-T", "cat6a", 100, 0},      // IEEE 802.3 Clause 40 on an ANSI/TIA-568.2 channel (seen)
+		{"10GBASE-T", "cat6a", 100, 0},       // IEEE 802.3 Clause 55 on Cat 6A (seen)
+		{"1000BASE-SX", "om3", 550, 3.56},    // IEEE 802.3 Clause 38, OM2 values used for OM3 (seen)
+		{"1000BASE-SX", "om4", 550, 3.56},    // IEEE 802.3 Clause 38, OM2 values used for OM4 (seen)
+		{"1000BASE-SX", "om5", 550, 3.56},    // OM4's values for OM5 (from memory)
+		{"1000BASE-LX", "os2", 5000, 4.5},    // IEEE 802.3 Clause 38 (seen)
+		{"10GBASE-SR", "om3", 300, 2.6},      // IEEE 802.3 Clause 52: range seen, CIL from memory
+		{"10GBASE-SR", "om4", 400, 2.9},      // IEEE 802.3 Clause 52, 10GBASE-SR on OM4 (seen)
+		{"10GBASE-SR", "om5", 400, 2.9},      // OM4's values for OM5 (from memory)
+		{"10GBASE-LR", "os2", 10000, 6.2},    // IEEE 802.3 Clause 52 (from memory)
+		{"10GBASE-ER", "os2", 30000, 11},     // IEEE 802.3 Clause 52 (seen)
+		{"25GBASE-SR", "om3", 70, 1.8},       // IEEE 802.3 Clause 112 (seen)
+		{"25GBASE-SR", "om4", 100, 1.9},      // IEEE 802.3 Clause 112 (seen)
+		{"25GBASE-SR", "om5", 100, 1.9},      // IEEE 802.3 Clause 112 (seen)
+		{"25GBASE-LR", "os2", 10000, 6.3},    // IEEE 802.3 Clause 114: reach seen, CIL from memory
+		{"40GBASE-SR4", "om3", 100, 1.9},     // IEEE 802.3 Clause 86: reach seen, CIL from memory
+		{"40GBASE-SR4", "om4", 150, 1.5},     // IEEE 802.3 Clause 86 (seen)
+		{"40GBASE-SR4", "om5", 150, 1.5},     // OM4's values for OM5 (from memory)
+		{"40GBASE-LR4", "os2", 10000, 6.7},   // IEEE 802.3 Clause 87 (seen)
+		{"100GBASE-SR4", "om3", 70, 1.8},     // IEEE 802.3 Clause 95: OM3 reach seen, CIL from memory
+		{"100GBASE-SR4", "om4", 100, 1.9},    // IEEE 802.3 Clause 95 (from memory)
+		{"100GBASE-SR4", "om5", 100, 1.9},    // IEEE 802.3 Clause 95 (from memory)
+		{"100GBASE-LR4", "os2", 10000, 6.3},  // IEEE 802.3 Clause 88 (from memory)
+		{"100GBASE-ER4", "os2", 40000, 18},   // IEEE 802.3 Clause 88, 30 km plus engineered links (seen)
+		{"100GBASE-DR", "os2", 500, 3.0},     // IEEE 802.3 Clause 140 (from memory)
+		{"100GBASE-FR1", "os2", 2000, 4.0},   // IEEE 802.3 Clause 140 (from memory)
+		{"100GBASE-LR1", "os2", 10000, 6.3},  // IEEE 802.3 Clause 140 (from memory)
+		{"400GBASE-SR8", "om3", 70, 1.8},     // IEEE 802.3 Clause 138 (from memory)
+		{"400GBASE-SR8", "om4", 100, 1.9},    // IEEE 802.3 Clause 138 (from memory)
+		{"400GBASE-SR8", "om5", 100, 1.9},    // IEEE 802.3 Clause 138 (from memory)
+		{"400GBASE-SR4.2", "om3", 70, 1.8},   // IEEE 802.3 Clause 150 (from memory)
+		{"400GBASE-SR4.2", "om4", 100, 1.9},  // IEEE 802.3 Clause 150 (from memory)
+		{"400GBASE-SR4.2", "om5", 150, 2.0},  // IEEE 802.3 Clause 150 (from memory)
+		{"400GBASE-DR4", "os2", 500, 3.0},    // IEEE 802.3 Clause 124 (from memory)
+		{"400GBASE-FR4", "os2", 2000, 4.0},   // IEEE 802.3 Clause 151 (from memory)
+		{"400GBASE-LR4-6", "os2", 6000, 6.3}, // IEEE 802.3 Clause 151 (from memory)
+		{"400GBASE-LR8", "os2", 10000, 6.3},  // IEEE 802.3 Clause 122 (from memory)
 	}
 	n := 0
 	for _, a := range c.Applications {
@@ -79,20 +92,29 @@ func TestCatalogApplications(t *testing.T) {
 		wavelengths string
 		strands     int
 	}{
-		{"1000BASE-T", 1, "", 1},         // IEEE 802.3 Clause 40: one 4-pair cable (seen)
-		{"10GBASE-T", 10, "", 1},         // IEEE 802.3 Clause 55 (seen)
-		{"1000BASE-SX", 1, "850", 2},     // IEEE 802.3 Clause 38 (seen)
-		{"1000BASE-LX", 1, "1310", 2},    // IEEE 802.3 Clause 38 (seen)
-		{"10GBASE-SR", 10, "850", 2},     // IEEE 802.3 Clause 52 (seen)
-		{"10GBASE-LR", 10, "1310", 2},    // IEEE 802.3 Clause 52 (from memory)
-		{"10GBASE-ER", 10, "1550", 2},    // IEEE 802.3 Clause 52 (seen)
-		{"25GBASE-SR", 25, "850", 2},     // IEEE 802.3 Clause 112 (seen)
-		{"25GBASE-LR", 25, "1310", 2},    // IEEE 802.3 Clause 114 (seen)
-		{"40GBASE-SR4", 40, "850", 8},    // IEEE 802.3 Clause 86, 8 fibres (seen)
-		{"40GBASE-LR4", 40, "1310", 2},   // IEEE 802.3 Clause 87, CWDM (seen)
-		{"100GBASE-SR4", 100, "850", 8},  // IEEE 802.3 Clause 95, 8 fibres (seen)
-		{"100GBASE-LR4", 100, "1310", 2}, // IEEE 802.3 Clause 88, LAN-WDM (from memory)
-		{"100GBASE-ER4", 100, "1310", 2}, // IEEE 802.3 Clause 88, LAN-WDM (seen)
+		{"1000BASE-T", 1, "", 1},           // IEEE 802.3 Clause 40: one 4-pair cable (seen)
+		{"10GBASE-T", 10, "", 1},           // IEEE 802.3 Clause 55 (seen)
+		{"1000BASE-SX", 1, "850", 2},       // IEEE 802.3 Clause 38 (seen)
+		{"1000BASE-LX", 1, "1310", 2},      // IEEE 802.3 Clause 38 (seen)
+		{"10GBASE-SR", 10, "850", 2},       // IEEE 802.3 Clause 52 (seen)
+		{"10GBASE-LR", 10, "1310", 2},      // IEEE 802.3 Clause 52 (from memory)
+		{"10GBASE-ER", 10, "1550", 2},      // IEEE 802.3 Clause 52 (seen)
+		{"25GBASE-SR", 25, "850", 2},       // IEEE 802.3 Clause 112 (seen)
+		{"25GBASE-LR", 25, "1310", 2},      // IEEE 802.3 Clause 114 (seen)
+		{"40GBASE-SR4", 40, "850", 8},      // IEEE 802.3 Clause 86, 8 fibres (seen)
+		{"40GBASE-LR4", 40, "1310", 2},     // IEEE 802.3 Clause 87, CWDM (seen)
+		{"100GBASE-SR4", 100, "850", 8},    // IEEE 802.3 Clause 95, 8 fibres (seen)
+		{"100GBASE-LR4", 100, "1310", 2},   // IEEE 802.3 Clause 88, LAN-WDM (from memory)
+		{"100GBASE-ER4", 100, "1310", 2},   // IEEE 802.3 Clause 88, LAN-WDM (seen)
+		{"100GBASE-DR", 100, "1310", 2},    // IEEE 802.3 Clause 140, one wavelength (from memory)
+		{"100GBASE-FR1", 100, "1310", 2},   // IEEE 802.3 Clause 140 (from memory)
+		{"100GBASE-LR1", 100, "1310", 2},   // IEEE 802.3 Clause 140 (from memory)
+		{"400GBASE-SR8", 400, "850", 16},   // IEEE 802.3 Clause 138, 8 lanes each way (from memory)
+		{"400GBASE-SR4.2", 400, "850", 8},  // IEEE 802.3 Clause 150, two wavelengths per fibre (from memory)
+		{"400GBASE-DR4", 400, "1310", 8},   // IEEE 802.3 Clause 124, 4 lanes each way (from memory)
+		{"400GBASE-FR4", 400, "1310", 2},   // IEEE 802.3 Clause 151, CWDM (from memory)
+		{"400GBASE-LR4-6", 400, "1310", 2}, // IEEE 802.3 Clause 151, CWDM (from memory)
+		{"400GBASE-LR8", 400, "1310", 2},   // IEEE 802.3 Clause 122, LAN-WDM (from memory)
 	}
 	if len(c.Applications) != len(cases) {
 		t.Errorf("catalog has %d applications, the table checks %d", len(c.Applications), len(cases))
@@ -247,7 +269,8 @@ func TestParseRate(t *testing.T) {
 		{"10Gb/s", 10, ""},
 		{" 40G ", 40, ""},
 		{"2.5G", 0, `no application runs at 2.5G; the catalog has 1G, 10G, 25G, 40G, 100G`},
-		{"400G", 0, `no application runs at 400G`},
+		{"400G", 400, ""},
+		{"800G", 0, `no application runs at 800G`},
 		{"fast", 0, `rate "fast": want a rate such as 10G`},
 		{"", 0, `want a rate such as 10G`},
 		{"-10G", 0, `want a rate such as 10G`},

@@ -19,13 +19,22 @@ const (
 	RuleNoApplication = "no-application" // no application at the link's rate runs on the medium
 )
 
-// EngineOptions tunes the rule engine. Zero values mean: no loss margin, no copper between
-// buildings, and the catalog's connection losses.
+// EngineOptions tunes the rule engine. Zero values mean: the catalog's margin policy and
+// nothing more, no copper between buildings, the catalog's design connection losses, the
+// price book's termination method and 10 m of copper cords.
 type EngineOptions struct {
-	LossMarginDB       float64 // margin every fibre loss budget must keep, in dB
+	LossMarginDB       float64 // the least margin every fibre loss budget keeps, in dB; the catalog's margin policy may ask more
 	AllowOutdoorCopper bool    // permit copper between buildings
-	PairLossDB         float64 // design loss of a mated connector pair, in dB; 0 = catalog
-	SpliceLossDB       float64 // design loss of a splice, in dB; 0 = catalog
+	PairLossDB         float64 // design loss of a mated connector pair, in dB; 0 = catalog design_pair_db
+	SpliceLossDB       float64 // design loss of a splice, in dB; 0 = catalog design_splice_db
+	// Termination is how fibre strand ends are terminated (a Termination* constant); "" = the
+	// price book's termination_method, which says what its termination price buys.
+	Termination string
+	// CopperCordsM is the patch and equipment cords of a copper channel, both ends together,
+	// in metres; 0 = 10 m (ANSI/TIA-568.2).
+	CopperCordsM float64
+	// Margins replaces the catalog's margin policy when not nil.
+	Margins *MarginPolicy
 }
 
 // Engine applies a rule file to a catalog and prices the survivors from a price book. It is
@@ -37,6 +46,15 @@ type Engine struct {
 	opt    EngineOptions
 	design Connections // connection losses for LossDB
 	field  Connections // the catalog's, for FieldLimitDB
+	// termination is the termination method in force, margins the margin policy, cordsM the
+	// copper cords, attenuators the attenuator values the price book prices, ascending.
+	termination string
+	margins     MarginPolicy
+	cordsM      float64
+	attenuators []int
+	// reaches holds Catalog.ReachesOn for every application and medium, which the engine
+	// asks for on every candidate.
+	reaches map[reachKey][]Reach
 	// breakpoints are the positive numbers in the rule conditions: candidate channel lengths
 	// at which feasibility may change, for MaxChannelM.
 	breakpoints []float64
@@ -68,14 +86,40 @@ func NewEngine(c *Catalog, r *Rules, p *PriceBook, opt EngineOptions) (*Engine, 
 	for _, o := range []struct {
 		name string
 		v    float64
-	}{{"loss_margin_db", opt.LossMarginDB}, {"pair_loss_db", opt.PairLossDB}, {"splice_loss_db", opt.SpliceLossDB}} {
+	}{{"loss_margin_db", opt.LossMarginDB}, {"pair_loss_db", opt.PairLossDB}, {"splice_loss_db", opt.SpliceLossDB},
+		{"copper_cords_m", opt.CopperCordsM}} {
 		if !finite(o.v) || o.v < 0 {
 			errs.Add(fmt.Errorf("media: option %s: %w: want dB >= 0, got %g", o.name, ErrBadValue, o.v))
 		}
 	}
 	e := &Engine{cat: c, rules: r, prices: p, opt: opt,
-		design: Connections{PairDB: c.MatedPairDB, SpliceDB: c.SpliceDB},
-		field:  Connections{PairDB: c.MatedPairDB, SpliceDB: c.SpliceDB}}
+		design:      Connections{PairDB: c.DesignPairDB, SpliceDB: c.DesignSpliceDB},
+		field:       Connections{PairDB: c.MatedPairDB, SpliceDB: c.SpliceDB},
+		termination: p.Termination, margins: c.Margins, cordsM: defaultCopperCordsM,
+		attenuators: sortedAttenuators(p)}
+	if e.termination == "" {
+		e.termination = TerminationSplicedPigtail
+	}
+	if opt.Termination != "" {
+		if TerminationSplices(opt.Termination) < 0 {
+			errs.Add(fmt.Errorf("media: option termination: %w: want one of %s, got %q", ErrBadValue, strings.Join(Terminations(), ", "), opt.Termination))
+		}
+		e.termination = opt.Termination
+	}
+	if opt.CopperCordsM > 0 {
+		e.cordsM = opt.CopperCordsM
+	}
+	if opt.Margins != nil {
+		for _, o := range []struct {
+			name string
+			v    float64
+		}{{"multimode_db", opt.Margins.MultimodeDB}, {"singlemode_db", opt.Margins.SinglemodeDB}, {"repair_splices_per_km", opt.Margins.RepairSplicesPerKm}} {
+			if !finite(o.v) || o.v < 0 {
+				errs.Add(fmt.Errorf("media: option margins %s: %w: want >= 0, got %g", o.name, ErrBadValue, o.v))
+			}
+		}
+		e.margins = *opt.Margins
+	}
 	if opt.PairLossDB > 0 {
 		e.design.PairDB = opt.PairLossDB
 	}
@@ -91,10 +135,28 @@ func NewEngine(c *Catalog, r *Rules, p *PriceBook, opt EngineOptions) (*Engine, 
 	if err := sorted(&errs); err != nil {
 		return nil, err
 	}
+	e.reaches = map[reachKey][]Reach{}
+	for _, a := range c.Applications {
+		for _, m := range c.Media {
+			if rs := c.ReachesOn(a, m.ID); len(rs) > 0 {
+				e.reaches[reachKey{a, m.ID}] = rs
+			}
+		}
+	}
 	// lru.New errs only on a size <= 0.
 	e.chosen, _ = lru.New[chooseKey, Choice](chooseCacheSize)
 	e.maxMemo, _ = lru.New[maxKey, float64](4 * chooseCacheSize)
 	return e, nil
+}
+
+type reachKey struct {
+	a      *Application
+	medium string
+}
+
+// reachesOn is Catalog.ReachesOn(a, medium), computed once.
+func (e *Engine) reachesOn(a *Application, medium string) []Reach {
+	return e.reaches[reachKey{a, medium}]
 }
 
 // checkRule reports rule references the catalog cannot satisfy, and collects breakpoints.
@@ -185,8 +247,10 @@ type candidate struct {
 	// runs from entrance to entrance, spliced at each to inside, which takes the risers.
 	inside      *Construction
 	lossK       *Construction // k, or k and inside blended by length, for the loss budget
-	splices     int           // the link's splices, and the two transition splices
+	splices     int           // the link's splices, the termination splices and the two transition splices
 	labourCents int64         // splicing the transitions, part of costCents
+	b           budget        // the loss budget, on the reach-and-loss pair it uses
+	repair      int           // repair splices in the required margin
 }
 
 // label names the candidate's cable: its construction, and the inside one it is spliced to.
@@ -245,18 +309,28 @@ func blend(k, inside *Construction, insideM, lengthM float64) *Construction {
 }
 
 // strandsFor is what a link needs of application a on medium m: the link's strands but at
-// least the application's. On copper the count is of 4-pair cables, one per duplex channel
-// the strands would carry, i.e. half the strands rounded up (common practice, no published
-// source: a backbone channel is one fibre pair or one 4-pair cable).
+// least the application's. On copper the count is of 4-pair cables: Link.CopperCables, one per
+// port pair the link asks for, or else one per duplex channel the strands would carry, i.e. half
+// the strands rounded up (common practice, no published source: a backbone channel is one fibre
+// pair or one 4-pair cable).
 func strandsFor(l Link, a *Application, m *Medium) int {
 	n := l.Strands
 	if m.Kind == KindCopper {
-		n = (n + 1) / 2
+		n = copperCables(l)
 	}
 	if n > a.Strands {
 		return n
 	}
 	return a.Strands
+}
+
+// copperCables is the number of 4-pair cables a copper link needs: Link.CopperCables, or one
+// per two strands when it is 0.
+func copperCables(l Link) int {
+	if l.CopperCables > 0 {
+		return l.CopperCables
+	}
+	return (l.Strands + 1) / 2
 }
 
 // lengths are the lengths a candidate is judged at: the link's own (its route and channel),
@@ -278,15 +352,16 @@ func trialLengths(l Link, channelM float64) lengths {
 func (e *Engine) evaluate(c *candidate, l Link, at lengths, mi, ai, ki int, inside *Construction) {
 	m, a := e.cat.Media[mi], e.cat.Applications[ai]
 	k := m.Constructions[ki]
-	r, _ := a.On(m.ID)
 	channel := at.channelM
-	*c = candidate{m: m, a: a, k: k, r: r, mi: mi, ai: ai, ki: ki, failed: -1, strands: strandsFor(l, a, m),
-		lossK: k, splices: l.Splices}
+	*c = candidate{m: m, a: a, k: k, mi: mi, ai: ai, ki: ki, failed: -1, strands: strandsFor(l, a, m),
+		lossK: k, splices: l.Splices + e.termSplices(m)}
 	if inside != nil {
-		c.inside, c.splices = inside, l.Splices+2
+		c.inside, c.splices = inside, c.splices+2
 		c.lossK = blend(k, inside, l.RiserM, channel)
 	}
-	c.losses = Losses(c.lossK, a, r, channel, l.ConnectorPairs, c.splices, e.design, e.field)
+	c.repair = e.repairSplices(m, outsideM(l, at))
+	c.b = e.budgetFor(c.lossK, a, e.reachesOn(a, m.ID), channel, l.ConnectorPairs, c.splices, e.requiredMarginDB(m, c.repair))
+	c.r, c.losses = c.b.r, c.b.losses
 	f := &c.f
 	f[fChannelM].num = channel
 	f[fRouteM].num = at.routeM
@@ -318,7 +393,7 @@ func (e *Engine) evaluate(c *candidate, l Link, at lengths, mi, ai, ki int, insi
 	f[fConstructionOutdoorRated].b = k.OutdoorRated
 	f[fConstructionListed].b = k.Listing != ""
 	f[fConstructionPlenumRated].b = k.PlenumRated
-	f[fReachM].num = r.RangeM
+	f[fReachM].num = c.r.RangeM
 	if w, ok := worstLoss(c.losses); ok {
 		c.marginDB = w.MarginDB
 		f[fLossDB].num = w.LossDB
@@ -326,8 +401,19 @@ func (e *Engine) evaluate(c *candidate, l Link, at lengths, mi, ai, ki int, insi
 		f[fMarginDB].num = w.MarginDB
 		f[fWavelengthNM].num = float64(w.WavelengthNM)
 	}
-	f[fLossMarginDB].num = e.opt.LossMarginDB
+	f[fLossMarginDB].num = c.b.requiredDB
 	f[fAllowOutdoorCopper].b = e.opt.AllowOutdoorCopper
+	ia, ib := l.insideM()
+	f[fInsideAM].num, f[fInsideBM].num, f[fInsideMaxM].num = ia, ib, max(ia, ib)
+	if !m.Fibre() {
+		f[fCordsM].num = e.cordsM
+		f[fCopperChannelM].num = channel + e.cordsM
+	}
+	f[fMinLossDB].num = a.MinLossDB
+	f[fLeastLossDB].num = c.b.leastDB
+	f[fAttenuatorDB].num = float64(c.b.attDB)
+	f[fOverloadDB].num = c.b.overloadDB
+	f[fRepairSplices].num = float64(c.repair)
 	e.future(l, c)
 	for ri, rule := range e.rules.Rules {
 		if !rule.appliesTo(m) {
@@ -373,16 +459,15 @@ func (e *Engine) future(l Link, c *candidate) {
 	var bestR Reach
 	bestMargin, bestScore := 0.0, -1
 	for _, a := range e.cat.Applications {
-		r, ok := a.On(c.m.ID)
-		if !ok || a.RateGbps != l.FutureRateGbps {
+		rs := e.reachesOn(a, c.m.ID)
+		if len(rs) == 0 || a.RateGbps != l.FutureRateGbps {
 			continue
 		}
-		margin := 0.0
-		if w, ok := worstLoss(Losses(c.lossK, a, r, channel, l.ConnectorPairs, c.splices, e.design, e.field)); ok {
-			margin = w.MarginDB
-		}
+		b := e.budgetFor(c.lossK, a, rs, channel, l.ConnectorPairs, c.splices, c.b.requiredDB)
+		r := b.r
+		margin, _ := b.marginDB()
 		reaches := r.RangeM >= channel
-		closes := !c.m.Fibre() || margin >= e.opt.LossMarginDB
+		closes := !c.m.Fibre() || (margin >= b.requiredDB && b.overloadDB == 0)
 		score := 0 // 2 fits, 1 reaches but the budget fails, 0 short
 		switch {
 		case reaches && closes:
@@ -406,8 +491,8 @@ func (e *Engine) future(l Link, c *candidate) {
 	case 2:
 		f[fFutureFits].b = true
 	case 1:
-		f[fFutureNote].str = fmt.Sprintf("%s leaves a loss margin of %s dB, below the required %s dB",
-			best.Name, formatNum(bestMargin), formatNum(e.opt.LossMarginDB))
+		f[fFutureNote].str = fmt.Sprintf("%s leaves a loss margin of %s dB, below the required %s dB, or overloads its receiver",
+			best.Name, formatNum(bestMargin), formatNum(c.b.requiredDB))
 	default:
 		f[fFutureNote].str = fmt.Sprintf("%s reaches %s m", best.Name, formatNum(bestR.RangeM))
 	}
@@ -425,7 +510,7 @@ func (e *Engine) cost(c *candidate, channelM float64, riserM float64) (cableCent
 	trx, _ := e.prices.Price(PriceKey{Item: PriceTransceiver, Name: c.a.Transceiver})
 	if c.inside == nil {
 		cableCents = MulCents(perM*int64(n), channelM)
-		return cableCents, cableCents + 2*int64(c.strands)*term + 2*trx
+		return cableCents, cableCents + 2*int64(c.strands)*term + 2*trx + c.b.attCents
 	}
 	// Outside-plant cable between the entrances, inside cable up the risers, and at each
 	// entrance an enclosure with trays for every strand of the cable and the splicing.
@@ -441,7 +526,7 @@ func (e *Engine) cost(c *candidate, channelM float64, riserM float64) (cableCent
 			c.labourCents = int64(math.Round(float64(2*spliced) / rate * float64(hour)))
 		}
 	}
-	return cableCents, cableCents + c.labourCents + 2*int64(c.strands)*term + 2*trx
+	return cableCents, cableCents + c.labourCents + 2*int64(c.strands)*term + 2*trx + c.b.attCents
 }
 
 // checkLink lists what is wrong with a link's facts, or "" when nothing is.
@@ -450,7 +535,8 @@ func checkLink(l Link) string {
 	for _, q := range []struct {
 		name string
 		v    float64
-	}{{"route_m", l.RouteM}, {"riser_m", l.RiserM}, {"slack_m", l.SlackM}, {"future_rate_gbps", l.FutureRateGbps}} {
+	}{{"route_m", l.RouteM}, {"riser_m", l.RiserM}, {"slack_m", l.SlackM}, {"future_rate_gbps", l.FutureRateGbps},
+		{"inside_a_m", l.InsideAM}, {"inside_b_m", l.InsideBM}} {
 		if !finite(q.v) || q.v < 0 {
 			bad = append(bad, fmt.Sprintf("%s is %g, want >= 0", q.name, q.v))
 		}
@@ -464,7 +550,7 @@ func checkLink(l Link) string {
 	for _, q := range []struct {
 		name string
 		v    int
-	}{{"connector_pairs", l.ConnectorPairs}, {"splices", l.Splices}, {"strands", l.Strands}} {
+	}{{"connector_pairs", l.ConnectorPairs}, {"splices", l.Splices}, {"strands", l.Strands}, {"copper_cables", l.CopperCables}} {
 		if q.v < 0 {
 			bad = append(bad, fmt.Sprintf("%s is %d, want >= 0", q.name, q.v))
 		}
@@ -506,13 +592,14 @@ type chooseKey struct {
 	emi                                          string
 	outdoor, plenum                              bool
 	types                                        string
-	pairs, splices, strands                      int
+	pairs, splices, strands, copper              int
+	insideA, insideB                             float64
 }
 
 func keyOf(l Link) chooseKey {
 	return chooseKey{id: l.ID, routeM: l.RouteM, riserM: l.RiserM, slackM: l.SlackM, rateGbps: l.RateGbps,
 		futureGbps: l.FutureRateGbps, emi: l.MaxEMI, outdoor: l.Outdoor, plenum: l.Plenum, types: strings.Join(l.PathwayTypes, "\x00"),
-		pairs: l.ConnectorPairs, splices: l.Splices, strands: l.Strands}
+		pairs: l.ConnectorPairs, splices: l.Splices, strands: l.Strands, copper: l.CopperCables, insideA: l.InsideAM, insideB: l.InsideBM}
 }
 
 // clone gives the caller slices of its own, so a remembered choice cannot be changed.
@@ -536,7 +623,7 @@ func (e *Engine) choose(l Link) Choice {
 			continue
 		}
 		for mi, m := range e.cat.Media {
-			if _, on := a.On(m.ID); !on {
+			if len(e.reachesOn(a, m.ID)) == 0 {
 				continue
 			}
 			for ki, k := range m.Constructions {
@@ -570,7 +657,11 @@ func (e *Engine) choose(l Link) Choice {
 		win = ok[0]
 		ch = Choice{Feasible: true, Medium: win.m.ID, Application: win.a.Name, Construction: win.k.ID,
 			Losses: win.losses, CostCents: win.costCents,
-			CableCents: win.cableCents, LabourCents: win.labourCents, Strands: win.strands}
+			CableCents: win.cableCents, LabourCents: win.labourCents, Strands: win.strands,
+			Attenuators: win.b.attN, AttenuatorDB: win.b.attDB, AttenuatorCents: win.b.attCents, RepairSplices: win.repair}
+		if win.m.Fibre() {
+			ch.Termination = e.termination
+		}
 		if win.inside != nil {
 			ch.Inside = win.inside.ID
 		}
@@ -640,8 +731,8 @@ func (e *Engine) rejections(l Link, m *Medium, mi int, all, ok []*candidate, win
 			}
 		}
 		if how == "" {
-			how = fmt.Sprintf("%s with %s on %s costs %s %s, %s more than %s", m.ID, c.a.Name, c.label(),
-				FormatCents(c.costCents), e.prices.Currency, FormatCents(c.costCents-win.costCents), win.m.ID)
+			how = fmt.Sprintf("%s with %s on %s costs %s %s %s, %s more than %s", m.ID, c.a.Name, c.label(),
+				FormatCents(c.costCents), e.prices.Currency, costCovers, FormatCents(c.costCents-win.costCents), win.m.ID)
 			if c.costCents == win.costCents {
 				how = fmt.Sprintf("%s with %s on %s costs the same %s %s as %s, which has the larger margin or comes first in the catalog",
 					m.ID, c.a.Name, c.label(), FormatCents(c.costCents), e.prices.Currency, win.m.ID)
@@ -672,6 +763,10 @@ func (e *Engine) rejections(l Link, m *Medium, mi int, all, ok []*candidate, win
 	return out
 }
 
+// costCovers says what a medium's cost in a reason holds: the engine's installed cost of the
+// medium, not a leg's whole cost (pathway, pulling, testing and patch cords are left out).
+const costCovers = "of cable, terminations and transceivers"
+
 // preferRule is the i-th prefer rule.
 func (e *Engine) preferRule(i int) *Rule {
 	n := 0
@@ -695,9 +790,9 @@ func (e *Engine) reason(l Link, win *candidate, ok []*candidate) string {
 		media[c.m.ID] = true
 	}
 	if len(media) == 1 {
-		fmt.Fprintf(&b, "is the only feasible medium, at %s %s", FormatCents(win.costCents), e.prices.Currency)
+		fmt.Fprintf(&b, "is the only feasible medium, at %s %s %s", FormatCents(win.costCents), e.prices.Currency, costCovers)
 	} else {
-		fmt.Fprintf(&b, "is the cheapest of %d feasible media at %s %s", len(media), FormatCents(win.costCents), e.prices.Currency)
+		fmt.Fprintf(&b, "is the cheapest of %d feasible media at %s %s %s", len(media), FormatCents(win.costCents), e.prices.Currency, costCovers)
 		for i, p := range win.prefer {
 			if p {
 				fmt.Fprintf(&b, " among those rule %s prefers", e.preferRule(i).ID)
@@ -722,8 +817,8 @@ func (e *Engine) feasibleAt(l Link, mi int, channelM float64) bool {
 	m := e.cat.Media[mi]
 	var c candidate
 	for ai, a := range e.cat.Applications {
-		r, on := a.On(m.ID)
-		if !on || a.RateGbps != l.RateGbps || channelM > r.RangeM {
+		rs := e.reachesOn(a, m.ID)
+		if len(rs) == 0 || a.RateGbps != l.RateGbps || channelM > longestRange(rs) {
 			continue
 		}
 		for ki, k := range m.Constructions {
@@ -739,15 +834,17 @@ func (e *Engine) feasibleAt(l Link, mi int, channelM float64) bool {
 
 // MaxChannelM is the longest channel in metres over which medium can carry rateGbps, and
 // futureRateGbps when it is > 0, for a link with l's other facts (connector pairs, splices,
-// EMI, outdoor, plenum, risers, slack; l's rates and route length are ignored). It honours every
-// rule of the engine: the applications' reach, the multimode 2 km cap, the copper 100 m
-// cap and the loss budget solved for length, as the default rules state them. It never
-// exceeds the longest operating range of an application at the rate on the medium. It
-// returns 0 when the medium never carries the rate for such a link, or is unknown.
+// EMI, outdoor, plenum, risers, slack, inside lengths; l's rates and route length are ignored).
+// It honours every rule of the engine: the applications' reach (a higher grade's and the grades
+// it meets), the multimode 2 km cap, the copper 90 m installed and 100 m channel caps and the
+// loss budget solved for length with the margin policy, repair splices and attenuators, as the
+// default rules state them. It never exceeds the longest operating range of an application at
+// the rate on the medium. It returns 0 when the medium never carries the rate for such a link,
+// or is unknown.
 func (e *Engine) MaxChannelM(medium string, rateGbps, futureRateGbps float64, l Link) float64 {
 	k := maxKey{medium: medium, rate: rateGbps, future: futureRateGbps, riser: l.RiserM, slack: l.SlackM,
 		emi: l.MaxEMI, outdoor: l.Outdoor, plenum: l.Plenum, types: strings.Join(l.PathwayTypes, ","), pairs: l.ConnectorPairs,
-		splices: l.Splices, strands: l.Strands}
+		splices: l.Splices, strands: l.Strands, copper: l.CopperCables, insideA: l.InsideAM, insideB: l.InsideBM}
 	if v, ok := e.maxMemo.Get(k); ok {
 		return v
 	}
@@ -764,6 +861,8 @@ type maxKey struct {
 	outdoor, plenum            bool
 	types                      string
 	pairs, splices, strands    int
+	copper                     int
+	insideA, insideB           float64
 }
 
 func (e *Engine) maxChannelM(medium string, rateGbps, futureRateGbps float64, l Link) float64 {
@@ -783,21 +882,17 @@ func (e *Engine) maxChannelM(medium string, rateGbps, futureRateGbps float64, l 
 	// the applications' ranges, and the lengths at which a loss budget closes exactly.
 	points := append([]float64(nil), e.breakpoints...)
 	for _, a := range e.cat.Applications {
-		r, on := a.On(m.ID)
-		if !on || (a.RateGbps != rateGbps && a.RateGbps != futureRateGbps) {
+		rs := e.reachesOn(a, m.ID)
+		if len(rs) == 0 || (a.RateGbps != rateGbps && a.RateGbps != futureRateGbps) {
 			continue
 		}
-		points = append(points, r.RangeM)
-		for _, k := range m.Constructions {
-			for _, nm := range a.WavelengthsNM {
-				at, _ := k.AttenDBPerKm(nm)
-				if x := MaxLengthM(at, r.MaxLossDB-e.opt.LossMarginDB, l.ConnectorPairs, l.Splices, e.design.PairDB, e.design.SpliceDB); finite(x) {
-					points = append(points, x)
-				}
-			}
+		for _, r := range rs {
+			points = append(points, r.RangeM)
 		}
+		points = e.budgetPoints(points, l, a, m, rs)
 	}
 	sort.Float64s(points)
+	points = slices.Compact(points)
 	for i := len(points) - 1; i >= 0; i-- {
 		x := points[i]
 		if x <= 0 || (i+1 < len(points) && points[i+1] == x) {
@@ -897,7 +992,7 @@ func (e *Engine) CableFor(medium string, rateGbps float64, l Link) int64 {
 	for ki, k := range m.Constructions {
 		strands := l.Strands
 		if m.Kind == KindCopper {
-			strands = (strands + 1) / 2
+			strands = copperCables(l)
 		}
 		size, n := k.Fit(strands)
 		if perM, ok := e.prices.Price(PriceKey{Item: PriceCable, Medium: m.ID, Construction: k.ID, Count: size.Count}); ok {
@@ -910,7 +1005,7 @@ func (e *Engine) CableFor(medium string, rateGbps float64, l Link) int64 {
 search:
 	for _, k := range ks {
 		for ai, a := range e.cat.Applications {
-			if _, on := a.On(m.ID); !on || a.RateGbps != rateGbps {
+			if len(e.reachesOn(a, m.ID)) == 0 || a.RateGbps != rateGbps {
 				continue
 			}
 			if e.evaluate(&c, l, at, mi, ai, k.ki, nil); c.failed < 0 {
@@ -928,22 +1023,28 @@ search:
 	return best
 }
 
-// FixedCents is the length-independent part of the installed cost of a link on medium at
-// rateGbps, in cents: one termination per strand (per 4-pair cable for copper) at both ends
-// for max(strands, the application's strands), plus two transceivers, for the application
-// at that rate on the medium that makes this cheapest, whatever its reach. Use MaxChannelM
-// for reach and Choose for the final price. It returns -1 when no application at the rate
-// runs on the medium, and panics on a medium not in the catalog.
+// FixedCents is FixedCentsFor a link of strands strands (on copper one 4-pair cable per two).
 func (e *Engine) FixedCents(medium string, rateGbps float64, strands int) int64 {
+	return e.FixedCentsFor(medium, rateGbps, Link{Strands: strands})
+}
+
+// FixedCentsFor is the length-independent part of the installed cost of a link with l's
+// strands (Link.CopperCables on copper) on medium at rateGbps, in cents: one termination per
+// strand (per 4-pair cable for copper) at both ends for max(strands, the application's
+// strands), plus two transceivers, for the application at that rate on the medium that makes
+// this cheapest, whatever its reach. Use MaxChannelM for reach and Choose for the final price.
+// It returns -1 when no application at the rate runs on the medium, and panics on a medium not
+// in the catalog.
+func (e *Engine) FixedCentsFor(medium string, rateGbps float64, l Link) int64 {
 	m := e.mustMedium(medium)
 	term, _ := e.prices.Price(PriceKey{Item: PriceTermination, Medium: m.ID})
 	best := int64(-1)
 	for _, a := range e.cat.Applications {
-		if _, on := a.On(m.ID); !on || a.RateGbps != rateGbps {
+		if len(e.reachesOn(a, m.ID)) == 0 || a.RateGbps != rateGbps {
 			continue
 		}
 		trx, _ := e.prices.Price(PriceKey{Item: PriceTransceiver, Name: a.Transceiver})
-		c := 2*int64(strandsFor(Link{Strands: strands}, a, m))*term + 2*trx
+		c := 2*int64(strandsFor(l, a, m))*term + 2*trx
 		if best < 0 || c < best {
 			best = c
 		}

@@ -42,6 +42,13 @@ func ieeeSingleMode(c *Catalog) {
 	}
 }
 
+// tiaMaxima plans with the ANSI/TIA-568.3-D maxima (0.75 dB per mated pair, 0.3 dB per
+// splice), connectors without splices and no margin policy: IEEE 802.3's own budget model,
+// against which a channel insertion loss is reproduced, plus the plan's margin.
+func tiaMaxima(planMarginDB float64) EngineOptions {
+	return EngineOptions{LossMarginDB: planMarginDB, PairLossDB: 0.75, SpliceLossDB: 0.3, Termination: TerminationFactory, Margins: &MarginPolicy{}}
+}
+
 func rejectionFor(ch Choice, medium string) []Rejection {
 	var out []Rejection
 	for _, r := range ch.Rejected {
@@ -72,22 +79,30 @@ func TestChoose(t *testing.T) {
 		wantReason   []string // substrings of Choice.Reason
 	}{
 		{
-			// ANSI/TIA-568.2: a 100 m channel is the copper limit (seen); common practice picks copper there
-			name: "copper at exactly 100 m", link: indoor(100), opt: EngineOptions{LossMarginDB: 1},
+			// ANSI/TIA-568.2: a 90 m permanent link is the installed copper limit (seen); common practice picks copper there
+			name: "copper at exactly 90 m installed", link: indoor(90), opt: tiaMaxima(1),
 			wantFeasible: true, wantMedium: "cat6a", wantApp: "10GBASE-T", wantCons: "cmr-riser",
-			wantCents:    9500 + 2*1100 + 2*5500, // 100 m x 0.95 + 2 jacks + 2 x 10GBASE-T
-			wantRejected: []string{"om3 rejected by loss-budget: 10GBASE-SR on ofnr-riser loses 1.85 dB at 850 nm against a limit of 2.6 dB; margin 0.75 dB is below the required 1 dB", "os2 rejected by cost"},
-			wantReason:   []string{"cat6a with 10GBASE-T on cmr-riser is the cheapest of 4 feasible media at 227.00 USD for a 100 m channel, within its 100 m reach"},
+			wantCents: 8550 + 2*1100 + 2*5500, // 90 m x 0.95 + 2 jacks + 2 x 10GBASE-T
+			// computed: 0.09 km x 3.5 dB/km + 2 x 0.75 dB = 1.815 dB against IEEE 802.3 Clause 52's 2.6 dB
+			wantRejected: []string{"om3 rejected by loss-budget: 10GBASE-SR on ofnr-riser loses 1.81 dB at 850 nm against a limit of 2.6 dB; margin 0.79 dB is below the required 1 dB", "os2 rejected by cost"},
+			wantReason:   []string{"cat6a with 10GBASE-T on cmr-riser is the cheapest of 4 feasible media at 217.50 USD of cable, terminations and transceivers for a 90 m channel, within its 100 m reach"},
 		},
 		{
-			// ANSI/TIA-568.2, 100 m channel (seen)
-			name: "copper past 100 m", link: indoor(100.5), opt: EngineOptions{LossMarginDB: 1},
+			// ANSI/TIA-568.2, 90 m permanent link (seen): 96 m of installed Cat 6A is not a channel
+			name: "copper past 90 m installed", link: indoor(96), opt: tiaMaxima(1),
 			wantFeasible: true, wantMedium: "os2", wantApp: "10GBASE-LR", wantCons: "ofnr-riser",
-			wantCents:    16884 + 2*2*1350 + 2*4500, // 100.5 m x 1.68 + 2 strands x 2 ends + 2 x 10GBASE-LR
-			wantRejected: []string{"cat6a rejected by copper-100m: a copper channel is at most 100 m (90 m permanent link plus 10 m of cords); this channel is 100.5 m"},
+			wantCents:    16128 + 2*2*1350 + 2*4500, // 96 m x 1.68 + 2 strands x 2 ends + 2 x 10GBASE-LR
+			wantRejected: []string{"cat6a rejected by copper-90m: installed copper (the permanent link) is at most 90 m; this link installs 96 m"},
+		},
+		{
+			// ANSI/TIA-568.2, 100 m channel (seen): 85 m installed with 20 m of cords is 105 m
+			name: "copper channel with long cords", link: indoor(85), opt: EngineOptions{CopperCordsM: 20},
+			wantFeasible: true, wantMedium: "os2",
+			wantRejected: []string{"cat6a rejected by copper-100m: a copper channel is at most 100 m; this one is 85 m installed plus 20 m of cords"},
 		},
 		{
 			// common practice, no published source: fibre on a high-EMI route
+			// OM3 keeps 0.825 dB of 2.6 (0.05 km x 3.5 + 2 x 0.5 + 2 pigtail splices x 0.3, computed), under the plan's 1 dB
 			name: "fibre on a high-EMI route", link: func() Link { l := indoor(50); l.MaxEMI = "high"; return l }(), opt: EngineOptions{LossMarginDB: 1},
 			wantFeasible: true, wantMedium: "os2", wantApp: "10GBASE-LR", wantCons: "ofnr-riser",
 			wantCents:    8400 + 2*2*1350 + 2*4500,
@@ -102,9 +117,10 @@ func TestChoose(t *testing.T) {
 			wantRejected: []string{
 				"om3 rejected by reach: 10GBASE-SR reaches 300 m, channel is 612 m",
 				"om4 rejected by reach: 10GBASE-SR reaches 400 m, channel is 612 m",
-				"cat6a rejected by copper-100m",
+				"cat6a rejected by copper-90m",
 			},
-			wantReason: []string{"os2 with 10GBASE-LR on osp-loose-tube is the only feasible medium, at 1289.16 USD for a 612 m channel, loss 1.81 dB against 6.2 dB at 1310 nm (margin 4.39 dB)"},
+			// computed: 0.612 km x 0.5 dB/km + 2 x 0.5 dB + 2 pigtail splices x 0.3 dB = 1.906 dB
+			wantReason: []string{"os2 with 10GBASE-LR on osp-loose-tube is the only feasible medium, at 1289.16 USD of cable, terminations and transceivers for a 612 m channel, loss 1.91 dB against 6.2 dB at 1310 nm (margin 4.29 dB)"},
 		},
 		{
 			// NFPA 70 800.90: copper between buildings needs primary protection (seen)
@@ -117,7 +133,7 @@ func TestChoose(t *testing.T) {
 			name: "copper between buildings when allowed", link: Link{RouteM: 60, RateGbps: 1, Outdoor: true, ConnectorPairs: 2, Strands: 1},
 			opt: EngineOptions{AllowOutdoorCopper: true}, wantFeasible: true, wantMedium: "cat6a", wantApp: "1000BASE-T", wantCons: "outdoor",
 			wantCents:    9600 + 2*1100 + 2*2500,
-			wantRejected: []string{"os2 rejected by cost: os2 with 1000BASE-LX on osp-loose-tube costs 183.80 USD, 15.80 more than cat6a"},
+			wantRejected: []string{"os2 rejected by cost: os2 with 1000BASE-LX on osp-loose-tube costs 183.80 USD of cable, terminations and transceivers, 15.80 more than cat6a"},
 		},
 		{
 			// NFPA 70 Article 770: unlisted OSP cable at most 15 m inside the entrance (seen as fragment)
@@ -141,7 +157,7 @@ func TestChoose(t *testing.T) {
 		},
 		{
 			name: "multimode under 2 km falls to the loss budget", link: Link{RouteM: 1900, RateGbps: 1, ConnectorPairs: 2, Strands: 2},
-			catalog:      func(c *Catalog) { setReach(t, c, "1000BASE-SX", "om4", 5000, 0) },
+			catalog: func(c *Catalog) { setReach(t, c, "1000BASE-SX", "om4", 5000, 0) }, opt: tiaMaxima(0),
 			wantFeasible: true, wantMedium: "os2",
 			wantRejected: []string{"om4 rejected by loss-budget: 1000BASE-SX on ofnr-riser loses 8.15 dB at 850 nm against a limit of 3.56 dB"},
 		},
@@ -149,37 +165,37 @@ func TestChoose(t *testing.T) {
 			// IEEE 802.3 Clause 88: 100GBASE-ER4 40 km, 18 dB (seen); with TIA-568.3-D's OSP
 			// maximum of 0.5 dB/km a 30 km channel closes: 15 + 1.5 = 16.5 dB (computed)
 			name: "single-mode serves 30 km at 100G", link: Link{RouteM: 30000, RateGbps: 100, Outdoor: true, ConnectorPairs: 2, Strands: 12},
-			opt: EngineOptions{LossMarginDB: 1}, wantFeasible: true, wantMedium: "os2", wantApp: "100GBASE-ER4", wantCons: "osp-loose-tube",
+			opt: tiaMaxima(1), wantFeasible: true, wantMedium: "os2", wantApp: "100GBASE-ER4", wantCons: "osp-loose-tube",
 			wantCents:  30000*143 + 2*12*1350 + 2*145000,
 			wantReason: []string{"loss 16.5 dB against 18 dB at 1310 nm (margin 1.5 dB)"},
 		},
 		{
 			// IEEE 802.3 Clause 88 (seen): 40 km at IEEE's own 0.4 dB/km: 16 + 1.5 = 17.5 dB (computed)
 			name: "single-mode serves 40 km at 100G with IEEE attenuation", link: Link{RouteM: 40000, RateGbps: 100, Outdoor: true, ConnectorPairs: 2, Strands: 2},
-			catalog: ieeeSingleMode, wantFeasible: true, wantMedium: "os2", wantApp: "100GBASE-ER4",
+			catalog: ieeeSingleMode, opt: tiaMaxima(0), wantFeasible: true, wantMedium: "os2", wantApp: "100GBASE-ER4",
 			wantReason: []string{"loss 17.5 dB against 18 dB at 1310 nm (margin 0.5 dB)"},
 		},
 		{
 			// computed: 40 km x 0.5 dB/km + 1.5 dB = 21.5 dB > 18 dB with the TIA-568.3-D OSP maximum
 			name: "40 km at TIA maximum attenuation does not close", link: Link{RouteM: 40000, RateGbps: 100, Outdoor: true, ConnectorPairs: 2, Strands: 2},
-			wantFeasible: false,
-			wantReason:   []string{"no medium carries 100G over 40000 m", "os2 rejected by loss-budget: 100GBASE-ER4 on indoor-outdoor loses 21.5 dB at 1310 nm against a limit of 18 dB"},
+			opt: tiaMaxima(0), wantFeasible: false,
+			wantReason: []string{"no medium carries 100G over 40000 m", "os2 rejected by loss-budget: 100GBASE-ER4 on indoor-outdoor loses 21.5 dB at 1310 nm against a limit of 18 dB"},
 		},
 		{
 			// IEEE 802.3 Clause 52: 10GBASE-ER 30 km, 11 dB = 30 x 0.3 + 2.0 (seen)
 			name: "single-mode serves 30 km at 10G with IEEE attenuation", link: Link{RouteM: 30000, RateGbps: 10, Outdoor: true, ConnectorPairs: 2, Strands: 2},
-			catalog: ieeeSingleMode, wantFeasible: true, wantMedium: "os2", wantApp: "10GBASE-ER",
+			catalog: ieeeSingleMode, opt: tiaMaxima(0), wantFeasible: true, wantMedium: "os2", wantApp: "10GBASE-ER",
 			wantReason: []string{"loss 10.5 dB against 11 dB at 1550 nm (margin 0.5 dB)"},
 		},
 		{
 			// The link carries 10G now and 40G later: OM3's 40GBASE-SR4 reaches 100 m (IEEE 802.3
 			// Clause 86, seen); OM4's closes no budget with two 0.75 dB pairs (computed)
 			name: "future rate", link: Link{RouteM: 100, RiserM: 10, SlackM: 10, RateGbps: 10, FutureRateGbps: 40, ConnectorPairs: 2, Strands: 12},
-			wantFeasible: true, wantMedium: "os2", wantApp: "10GBASE-LR",
+			opt: tiaMaxima(0), wantFeasible: true, wantMedium: "os2", wantApp: "10GBASE-LR",
 			wantRejected: []string{
 				"om3 rejected by future-rate: it cannot carry the future rate of 40 Gb/s over 120 m: 40GBASE-SR4 reaches 100 m",
 				"om4 rejected by future-rate: it cannot carry the future rate of 40 Gb/s over 120 m: 40GBASE-SR4 leaves a loss margin of -0.42 dB, below the required 0 dB",
-				"cat6a rejected by copper-100m",
+				"cat6a rejected by copper-90m",
 			},
 		},
 		{
@@ -196,7 +212,7 @@ func TestChoose(t *testing.T) {
 		{
 			name: "nothing reaches 45 km", link: Link{ID: "far", RouteM: 45000, RateGbps: 10, Outdoor: true, ConnectorPairs: 2},
 			wantFeasible: false,
-			wantReason: []string{"link far: no medium carries 10G over 45000 m: cat6a rejected by copper-100m",
+			wantReason: []string{"link far: no medium carries 10G over 45000 m: cat6a rejected by copper-90m",
 				"om3 rejected by reach", "om4 rejected by reach", "om5 rejected by reach", "os2 rejected by reach: 10GBASE-ER reaches 30000 m, channel is 45000 m"},
 		},
 		{
@@ -205,7 +221,7 @@ func TestChoose(t *testing.T) {
 		},
 		{
 			name: "rate not in the catalog", link: Link{RouteM: 50, RateGbps: 2.5},
-			wantReason: []string{"link: no application runs at 2.5G; the catalog has 1G, 10G, 25G, 40G, 100G"},
+			wantReason: []string{"link: no application runs at 2.5G; the catalog has 1G, 10G, 25G, 40G, 100G, 400G"},
 		},
 	}
 	for _, tc := range cases {
@@ -354,24 +370,34 @@ func TestMaxChannelM(t *testing.T) {
 		link         Link
 		want         float64
 	}{
-		{"copper 100 m", EngineOptions{}, nil, "cat6a", 10, 0, two, 100},                                                                                       // ANSI/TIA-568.2 (seen)
-		{"copper cap holds over a longer range", EngineOptions{}, func(c *Catalog) { setReach(t, c, "10GBASE-T", "cat6a", 150, 0) }, "cat6a", 10, 0, two, 100}, // ANSI/TIA-568.2 (seen)
-		{"copper outdoors", EngineOptions{}, nil, "cat6a", 10, 0, out, 0},                                                                                      // NFPA 70 800.90 (seen)
-		{"copper outdoors allowed", EngineOptions{AllowOutdoorCopper: true}, nil, "cat6a", 10, 0, out, 100},                                                    // ANSI/TIA-568.2 (seen)
-		{"copper high EMI", EngineOptions{}, nil, "cat6a", 10, 0, Link{ConnectorPairs: 2, MaxEMI: "high"}, 0},                                                  // common practice, no published source
+		{"copper 90 m installed", EngineOptions{}, nil, "cat6a", 10, 0, two, 90},                                                                              // ANSI/TIA-568.2, 90 m permanent link (seen)
+		{"copper cap holds over a longer range", EngineOptions{}, func(c *Catalog) { setReach(t, c, "10GBASE-T", "cat6a", 150, 0) }, "cat6a", 10, 0, two, 90}, // ANSI/TIA-568.2 (seen)
+		{"copper with 15 m of cords", EngineOptions{CopperCordsM: 15}, nil, "cat6a", 10, 0, two, 85},                                                          // ANSI/TIA-568.2, 100 m channel (seen)
+		{"copper outdoors", EngineOptions{}, nil, "cat6a", 10, 0, out, 0},                                                                                     // NFPA 70 800.90 (seen)
+		{"copper outdoors allowed", EngineOptions{AllowOutdoorCopper: true}, nil, "cat6a", 10, 0, out, 90},                                                    // ANSI/TIA-568.2 (seen)
+		{"copper high EMI", EngineOptions{}, nil, "cat6a", 10, 0, Link{ConnectorPairs: 2, MaxEMI: "high"}, 0},                                                 // common practice, no published source
 		{"copper at 25G", EngineOptions{}, nil, "cat6a", 25, 0, two, 0},
-		{"om4 10G reach and budget meet", EngineOptions{}, nil, "om4", 10, 0, two, 400},                                                      // IEEE 802.3 Clause 52 (seen): 400 m, 2.9 dB
-		{"om4 10G with 1 dB margin", EngineOptions{LossMarginDB: 1}, nil, "om4", 10, 0, two, 400.0 / 3.5},                                    // computed: (2.9-1-1.5)/3.5 km
-		{"om3 10G reach first", EngineOptions{}, nil, "om3", 10, 0, two, 300},                                                                // IEEE 802.3 Clause 52 (seen)
-		{"om3 1G reach", EngineOptions{}, nil, "om3", 1, 0, two, 550},                                                                        // IEEE 802.3 Clause 38 (seen); the budget alone allows 588.6 m (computed)
-		{"om3 1G budget", EngineOptions{LossMarginDB: 1}, nil, "om3", 1, 0, two, (3.56 - 1 - 1.5) / 3.5 * 1000},                              // computed from IEEE 802.3 Clause 38's 3.56 dB (seen)
-		{"om4 10G now, 40G later", EngineOptions{}, nil, "om4", 10, 40, one, 150},                                                            // IEEE 802.3 Clause 86 (seen): 150 m
-		{"om4 40G never closes with two pairs", EngineOptions{}, nil, "om4", 40, 0, two, 0},                                                  // computed: 1.5 dB limit, 1.5 dB of pairs
-		{"multimode 2 km cap", EngineOptions{}, func(c *Catalog) { setReach(t, c, "1000BASE-SX", "om4", 5000, 20) }, "om4", 1, 0, two, 2000}, // common practice, no published source
-		{"os2 10G outdoors", EngineOptions{}, nil, "os2", 10, 0, out, 19000},                                                                 // computed: 10GBASE-ER (11-1.5)/0.5 km
-		{"os2 10G indoors", EngineOptions{}, nil, "os2", 10, 0, two, 19000},                                                                  // computed: the indoor/outdoor construction is riser listed, so 10GBASE-ER at 0.5 dB/km serves indoors too
-		{"os2 100G outdoors 1 dB", EngineOptions{LossMarginDB: 1}, nil, "os2", 100, 0, out, 31000},                                           // computed: (18-1-1.5)/0.5 km
-		{"os2 splices count", EngineOptions{}, nil, "os2", 100, 0, Link{ConnectorPairs: 2, Splices: 5, Outdoor: true}, 30000},                // computed: 100GBASE-ER4 (18-1.5-1.5)/0.5 km
+		{"om4 10G reach and budget meet", tiaMaxima(0), nil, "om4", 10, 0, two, 400},                                                      // IEEE 802.3 Clause 52 (seen): 400 m, 2.9 dB
+		{"om4 10G with 1 dB margin", tiaMaxima(1), nil, "om4", 10, 0, two, 400.0 / 3.5},                                                   // computed: (2.9-1-1.5)/3.5 km
+		{"om3 10G reach first", tiaMaxima(0), nil, "om3", 10, 0, two, 300},                                                                // IEEE 802.3 Clause 52 (seen)
+		{"om3 1G reach", tiaMaxima(0), nil, "om3", 1, 0, two, 550},                                                                        // IEEE 802.3 Clause 38 (seen); the budget alone allows 588.6 m (computed)
+		{"om3 1G budget", tiaMaxima(1), nil, "om3", 1, 0, two, (3.56 - 1 - 1.5) / 3.5 * 1000},                                             // computed from IEEE 802.3 Clause 38's 3.56 dB (seen)
+		{"om4 10G now, 40G later", tiaMaxima(0), nil, "om4", 10, 40, one, 150},                                                            // IEEE 802.3 Clause 86 (seen): 150 m
+		{"om4 40G on OM3's pair with two pairs", tiaMaxima(0), nil, "om4", 40, 0, two, 100},                                               // IEEE 802.3 Clause 86: OM4's 1.5 dB closes nothing after 1.5 dB of pairs, OM3's 100 m and 1.9 dB do (grade order)
+		{"multimode 2 km cap", tiaMaxima(0), func(c *Catalog) { setReach(t, c, "1000BASE-SX", "om4", 5000, 20) }, "om4", 1, 0, two, 2000}, // common practice, no published source
+		{"os2 10G outdoors", tiaMaxima(0), nil, "os2", 10, 0, out, 19000},                                                                 // computed: 10GBASE-ER (11-1.5)/0.5 km
+		{"os2 10G indoors", tiaMaxima(0), nil, "os2", 10, 0, two, 19000},                                                                  // computed: the indoor/outdoor construction is riser listed, so 10GBASE-ER at 0.5 dB/km serves indoors too
+		{"os2 100G outdoors 1 dB", tiaMaxima(1), nil, "os2", 100, 0, out, 31000},                                                          // computed: (18-1-1.5)/0.5 km
+		{"os2 splices count", tiaMaxima(0), nil, "os2", 100, 0, Link{ConnectorPairs: 2, Splices: 5, Outdoor: true}, 30000},                // computed: 100GBASE-ER4 (18-1.5-1.5)/0.5 km
+		// The default policy: design losses 0.5 dB per pair and 0.3 dB per splice, two pigtail
+		// splices (1.6 dB of connections), no multimode margin, 1 dB and a repair splice per km of
+		// outside plant for single-mode (common practice, no published source).
+		{"policy: om3 10G", EngineOptions{}, nil, "om3", 10, 0, two, 1000.0 / 3.5},                                                  // IEEE 802.3 Clause 52, 2.6 dB (memory): (2.6-1.6)/3.5 km
+		{"policy: om3 25G", EngineOptions{}, nil, "om3", 25, 0, two, 200.0 / 3.5},                                                   // IEEE 802.3 Clause 112, 1.8 dB (seen): (1.8-1.6)/3.5 km
+		{"policy: om4 40G on OM3's pair", EngineOptions{}, nil, "om4", 40, 0, two, 300.0 / 3.5},                                     // IEEE 802.3 Clause 86, OM3 1.9 dB (memory): (1.9-1.6)/3.5 km
+		{"policy: om4 40G factory-terminated", EngineOptions{Termination: TerminationFactory}, nil, "om4", 40, 0, two, 500.0 / 3.5}, // IEEE 802.3 Clause 86: OM4's own 1.5 dB (seen) gives (1.5-1.0)/3.5 km, beyond OM3's 100 m
+		{"policy: os2 10G outdoors", EngineOptions{}, nil, "os2", 10, 0, out, 13600},                                                // computed: 10GBASE-ER with 7 repair splices (0.5 per km) at 13.6 km: 11-1.6-(0.5+7 x 0.3)-6.8 = 0 dB left
+		{"policy: os2 100G indoors", EngineOptions{}, nil, "os2", 100, 0, two, 31800},                                               // computed: 100GBASE-ER4 (18-1.6-0.5)/0.5 km, no repair splices inside
 		{"unknown medium", EngineOptions{}, nil, "om9", 10, 0, two, 0},
 	}
 	for _, tc := range cases {
@@ -615,8 +641,16 @@ func TestChooseTransition(t *testing.T) {
 	}
 	for _, l := range ch.Losses {
 		if l.WavelengthNM == 1310 {
-			if want := 0.5*3.0 + 1.0*0.04 + 2*0.75 + 2*0.3; math.Abs(l.LossDB-want) > 0.005 {
+			// Design: 2 pairs at 0.5 dB, 2 transition and 2 pigtail splices at 0.3 dB (the demo
+			// book terminates with spliced pigtails); field: ANSI/TIA-568.3-D 0.75 and 0.3 dB.
+			if want := 0.5*3.0 + 1.0*0.04 + 2*0.5 + 4*0.3; math.Abs(l.LossDB-want) > 0.005 {
 				t.Errorf("loss at 1310 nm: got %.3f dB, want %.3f", l.LossDB, want)
+			}
+			if want := 0.5*3.0 + 1.0*0.04 + 2*0.75 + 4*0.3; math.Abs(l.FieldLimitDB-want) > 0.005 {
+				t.Errorf("field limit at 1310 nm: got %.3f dB, want %.3f", l.FieldLimitDB, want)
+			}
+			if l.Pairs != 2 || l.Splices != 4 {
+				t.Errorf("loss at 1310 nm counts %d pairs and %d splices, want 2 and 4 (2 transitions, 2 pigtails)", l.Pairs, l.Splices)
 			}
 		}
 	}

@@ -30,8 +30,8 @@ func ExampleEngine_Choose() {
 	}
 	// Output:
 	// os2 10GBASE-LR osp-loose-tube 1289.16
-	// 1310 nm: loss 1.81 dB, limit 6.20 dB, margin 4.39 dB, field limit 1.81 dB
-	// cat6a rejected by copper-100m: a copper channel is at most 100 m (90 m permanent link plus 10 m of cords); this channel is 612 m
+	// 1310 nm: loss 1.91 dB, limit 6.20 dB, margin 4.29 dB, field limit 2.41 dB
+	// cat6a rejected by copper-90m: installed copper (the permanent link) is at most 90 m; this link installs 612 m
 	// om3 rejected by reach: 10GBASE-SR reaches 300 m, channel is 612 m
 	// om4 rejected by reach: 10GBASE-SR reaches 400 m, channel is 612 m
 	// om5 rejected by reach: 10GBASE-SR reaches 400 m, channel is 612 m
@@ -48,11 +48,11 @@ func ExampleEngine_MaxChannelM() {
 		fmt.Printf("%s %.0f m\n", m, e.MaxChannelM(m, 10, 0, media.Link{ConnectorPairs: 2}))
 	}
 	// Output:
-	// cat6a 100 m
-	// om3 300 m
-	// om4 400 m
-	// om5 400 m
-	// os2 19000 m
+	// cat6a 90 m
+	// om3 286 m
+	// om4 371 m
+	// om5 371 m
+	// os2 17800 m
 }
 
 func ExampleCatalog_Table() {
@@ -60,10 +60,13 @@ func ExampleCatalog_Table() {
 		fmt.Println(err)
 	}
 	// Output:
-	// application  rate  wavelength nm  uses      medium  range m  max channel loss dB  jacket
-	// 40GBASE-SR4  40G   850            8 fibres  om3     100      1.90                 aqua
-	// 40GBASE-SR4  40G   850            8 fibres  om4     150      1.50                 aqua
-	// 40GBASE-SR4  40G   850            8 fibres  om5     150      1.50                 lime green
-	// 40GBASE-LR4  40G   1310           2 fibres  os2     10000    6.70                 yellow
-	// connections: mated pair 0.75 dB, splice 0.30 dB; ranges and losses per IEEE 802.3, see catalog.yaml (embedded)
+	// application  rate  wavelength nm  uses      medium  range m  max channel loss dB  min channel loss dB  jacket
+	// 40GBASE-SR4  40G   850            8 fibres  om3     100      1.90                 0.00                 aqua
+	// 40GBASE-SR4  40G   850            8 fibres  om4     150      1.50                 0.00                 aqua
+	// 40GBASE-SR4  40G   850            8 fibres  om5     150      1.50                 0.00                 lime green
+	// 40GBASE-LR4  40G   1310           2 fibres  os2     10000    6.70                 0.00                 yellow
+	// connections: field acceptance (ANSI/TIA-568.3-D maxima) mated pair 0.75 dB, splice 0.30 dB; design mated pair 0.50 dB, splice 0.30 dB
+	// margins: multimode 0.00 dB; single-mode 0.50 dB and an allowance of 0.5 repair splices per km of outside plant
+	// higher grades: om4 also uses om3's figures; om5 also uses om4's figures
+	// ranges and losses per IEEE 802.3, see catalog.yaml (embedded)
 }

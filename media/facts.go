@@ -51,6 +51,16 @@ const (
 	fFutureReachM
 	fFutureMarginDB
 	fFutureNote
+	fInsideAM
+	fInsideBM
+	fInsideMaxM
+	fCordsM
+	fCopperChannelM
+	fMinLossDB
+	fLeastLossDB
+	fAttenuatorDB
+	fOverloadDB
+	fRepairSplices
 	nFacts
 )
 
@@ -95,13 +105,23 @@ var facts = [nFacts]Fact{
 	fLimitDB:                  numFact("limit_db", "the application's maximum channel insertion loss there, in dB; 0 for copper"),
 	fMarginDB:                 numFact("margin_db", "limit_db - loss_db at the worst operating wavelength, in dB; 0 for copper"),
 	fWavelengthNM:             numFact("wavelength_nm", "the worst operating wavelength, in nm; 0 for copper"),
-	fLossMarginDB:             numFact("loss_margin_db", "the margin the plan requires on every fibre loss budget, in dB"),
+	fLossMarginDB:             numFact("loss_margin_db", "the margin this fibre link must keep, in dB: its class's margin (catalog margins) and its repair-splice allowance, or the plan's loss_margin_db when larger"),
 	fAllowOutdoorCopper:       boolFact("allow_outdoor_copper", "the plan permits copper between buildings"),
 	fFutureFits:               boolFact("future_fits", "some application at the future rate on this medium and construction reaches the channel and closes its loss budget with loss_margin_db; true when there is no future rate"),
 	fFutureApplication:        strFact("future_application", "the application future_fits found, or the closest miss; \"none\" when the medium has none at the future rate"),
 	fFutureReachM:             numFact("future_reach_m", "future_application's operating range, in metres; 0 when none"),
 	fFutureMarginDB:           numFact("future_margin_db", "future_application's loss margin on this channel, in dB; 0 for copper or none"),
 	fFutureNote:               strFact("future_note", "why the future rate does not fit, in words; \"\" when it fits"),
+	fInsideAM:                 numFact("inside_a_m", "cable inside the building at the link's first end (riser, coil, loops, in-building pathways), in metres"),
+	fInsideBM:                 numFact("inside_b_m", "cable inside the building at the link's other end, in metres"),
+	fInsideMaxM:               numFact("inside_max_m", "the larger of inside_a_m and inside_b_m, in metres"),
+	fCordsM:                   numFact("cords_m", "patch and equipment cords of a copper channel, both ends together, in metres"),
+	fCopperChannelM:           numFact("copper_channel_m", "channel_m plus cords_m: the copper channel end to end, in metres"),
+	fMinLossDB:                numFact("min_loss_db", "the least channel loss the application's receiver takes, in dB; 0 when any"),
+	fLeastLossDB:              numFact("least_loss_db", "channel loss at the operating wavelength that loses least, without attenuator, in dB; 0 for copper"),
+	fAttenuatorDB:             numFact("attenuator_db", "the fixed attenuator at each receiver that brings the loss up to min_loss_db, in dB; 0 when none is needed"),
+	fOverloadDB:               numFact("overload_db", "how far the channel, attenuator included, stays below min_loss_db, in dB; 0 when the receiver is safe"),
+	fRepairSplices:            numFact("repair_splices", "repair splices allowed for in loss_margin_db: single-mode outside plant, per km (catalog margins)"),
 }
 
 var factIndex = func() map[string]int {

@@ -1,5 +1,7 @@
 package media
 
+import "fmt"
+
 // Link holds the facts about one candidate route for one link leg that the rule engine decides on.
 type Link struct {
 	ID string // the link's id, for messages
@@ -22,6 +24,25 @@ type Link struct {
 	Splices        int
 
 	Strands int // fibre strands required; copper carries them as one 4-pair cable per two strands
+
+	// CopperCables is the number of 4-pair cables a copper candidate needs: one per port pair
+	// the link asks for. 0 falls back to one per two Strands.
+	CopperCables int
+
+	// InsideAM and InsideBM are the metres of the leg's cable inside the building at each end
+	// (from, to): riser, service coil, entrance slack loop and in-building trays or tunnels, up
+	// to the point of entrance. NFPA 70 Article 770 limits unlisted cable there to 15 m. When
+	// both are 0 each end is taken as half of RiserM.
+	InsideAM, InsideBM float64
+}
+
+// insideM is the metres of cable inside the building at each end: InsideAM and InsideBM, or
+// half the risers each when neither is set.
+func (l Link) insideM() (a, b float64) {
+	if l.InsideAM == 0 && l.InsideBM == 0 {
+		return l.RiserM / 2, l.RiserM / 2
+	}
+	return l.InsideAM, l.InsideBM
 }
 
 // ChannelM is the full channel length in metres: route, risers and slack.
@@ -37,6 +58,16 @@ type Loss struct {
 	MarginDB     float64 // LimitDB − LossDB; 0 when !Operating
 	FieldLimitDB float64 // acceptance limit for a loss test set on the installed link (TIA-568.3-D Tier 1)
 	Operating    bool    // the application transmits at this wavelength
+
+	// The counts LossDB and FieldLimitDB are built from: mated connector pairs, and splices
+	// (termination pigtails, entrance transitions and mid-span joins).
+	Pairs, Splices int
+	// AttenuatorDB is the fixed attenuator at the receiver, in LossDB where Operating and not
+	// in FieldLimitDB (the cabling is tested without it); 0 without one.
+	AttenuatorDB float64
+	// RequiredMarginDB is the margin this link must keep (its class's margin and repair-splice
+	// allowance, or the plan's margin when larger), where Operating; 0 elsewhere.
+	RequiredMarginDB float64
 }
 
 // Rejection says why one candidate medium was not chosen.
@@ -58,6 +89,24 @@ type Choice struct {
 	LabourCents  int64  // splicing the entrance transitions, part of CostCents; 0 without
 	Inside       string // with an entrance transition: the listed construction Construction is spliced to at both entrances, which runs the risers; "" without
 	Strands      int    // strands terminated at each end (4-pair cables for copper)
-	Reason       string // why this medium, or why no medium fits when !Feasible
-	Rejected     []Rejection
+	Termination  string // how fibre strand ends are terminated (a Termination* constant); "" for copper
+	// Attenuators is the number of fixed attenuators of AttenuatorDB dB each (one at every
+	// receiver) the PHY needs on this short a channel, priced at AttenuatorCents in CostCents;
+	// see AttenuatorQuantity.
+	Attenuators     int
+	AttenuatorDB    int
+	AttenuatorCents int64
+	RepairSplices   int    // repair splices allowed for in the required margin (single-mode outside plant)
+	Reason          string // why this medium, or why no medium fits when !Feasible
+	Rejected        []Rejection
+}
+
+// AttenuatorQuantity is the bill of materials line for the choice's attenuators, and whether
+// it needs any.
+func (c Choice) AttenuatorQuantity() (Quantity, bool) {
+	if c.Attenuators == 0 {
+		return Quantity{}, false
+	}
+	return Quantity{Category: CategoryMaterial, Item: fmt.Sprintf("fixed optical attenuator %d dB", c.AttenuatorDB),
+		Unit: UnitEach, Amount: float64(c.Attenuators), Price: PriceKey{Item: PriceAttenuator, Count: c.AttenuatorDB}}, true
 }

@@ -34,6 +34,7 @@ const (
 	PriceLabourHour    = "labour-hour"    // one hour of labour
 	PriceTransceiver   = "transceiver"    // each: Name, the catalog application's price key
 	PricePatchCord     = "patch-cord"     // each, from a panel to the equipment: Medium (optional section, see PriceBook.Has)
+	PriceAttenuator    = "attenuator"     // a fixed in-line optical attenuator, each: Count dB (optional section)
 
 	RatePull        = "pull-rate"        // metres pulled per hour: Name pathway type (duct, tunnel, aerial, buried, tray)
 	RateSplice      = "splice-rate"      // splices per hour
@@ -103,6 +104,8 @@ func (k PriceKey) Path() string {
 		return "transceivers." + k.Name
 	case PricePatchCord:
 		return "patch_cords_each." + k.Medium
+	case PriceAttenuator:
+		return "attenuators_each." + n
 	case RatePull:
 		return "labour.pull_m_per_hour." + k.Name
 	case RateSplice:
@@ -128,6 +131,10 @@ type PriceBook struct {
 	PricesDate string // YYYY-MM-DD, the date the prices hold for
 
 	SpliceTrayStrands int // splices one tray holds
+
+	// Termination is how termination_each terminates a fibre strand end (a Termination*
+	// constant): what its price buys, and so how many splices the loss budget counts.
+	Termination string
 
 	ContingencyBP int64 // contingency on the subtotal
 	OverheadBP    int64 // overhead on the subtotal
@@ -342,6 +349,8 @@ type priceFile struct {
 	Labour              labourYAML                          `yaml:"labour"`
 	Transceivers        map[string]cents                    `yaml:"transceivers"`
 	PatchCordsEach      map[string]cents                    `yaml:"patch_cords_each"`
+	TerminationMethod   string                              `yaml:"termination_method"`
+	AttenuatorsEach     map[int]cents                       `yaml:"attenuators_each" keyrange:"attenuator-db"`
 	Markups             markupsYAML                         `yaml:"markups_percent"`
 }
 
@@ -371,6 +380,31 @@ type markupsYAML struct {
 	Contingency basisPoints `yaml:"contingency"`
 	Overhead    basisPoints `yaml:"overhead"`
 	Tax         basisPoints `yaml:"tax"`
+}
+
+// Ways a fibre strand end is terminated, the values of PriceBook.Termination and
+// EngineOptions.Termination.
+const (
+	TerminationSplicedPigtail = "spliced-pigtail"   // a factory-polished pigtail fusion-spliced to the strand
+	TerminationFieldConnector = "field-connector"   // a connector fitted and polished (or pre-polished) in the field
+	TerminationFactory        = "factory-connector" // a pre-terminated cable, connectors fitted in the factory
+)
+
+// Terminations returns the termination methods in a fixed order.
+func Terminations() []string {
+	return []string{TerminationSplicedPigtail, TerminationFieldConnector, TerminationFactory}
+}
+
+// TerminationSplices is the number of splices one strand end of termination method t puts in
+// the channel (a spliced pigtail 1, a connector 0), or -1 for an unknown method.
+func TerminationSplices(t string) int {
+	switch t {
+	case TerminationSplicedPigtail:
+		return 1
+	case TerminationFieldConnector, TerminationFactory:
+		return 0
+	}
+	return -1
 }
 
 // Names the price book accepts as map keys, besides media, constructions and applications.
@@ -421,8 +455,8 @@ func ParsePriceBook(name string, data []byte) (*PriceBook, error) {
 	c := checker{file: name, errs: &errs}
 	c.require(f.Pos, "", "label", "currency", "prices_date")
 	p := &PriceBook{File: name, Label: f.Label, Currency: f.Currency, PricesDate: f.PricesDate,
-		SpliceTrayStrands: f.SpliceTray.Strands,
-		ContingencyBP:     int64(f.Markups.Contingency), OverheadBP: int64(f.Markups.Overhead), TaxBP: int64(f.Markups.Tax),
+		SpliceTrayStrands: f.SpliceTray.Strands, Termination: TerminationSplicedPigtail,
+		ContingencyBP: int64(f.Markups.Contingency), OverheadBP: int64(f.Markups.Overhead), TaxBP: int64(f.Markups.Tax),
 		money: map[PriceKey]int64{}, rates: map[PriceKey]float64{}}
 	if f.Pos.Has("label") && strings.TrimSpace(f.Label) == "" {
 		c.bad(f.Pos, "", "label", ErrBadValue, "want a label saying whose prices these are, got an empty string")
@@ -479,6 +513,16 @@ func ParsePriceBook(name string, data []byte) (*PriceBook, error) {
 			}
 			money(PriceKey{Item: item, Count: n}, m[n])
 		}
+	}
+	if f.Pos.Has("termination_method") {
+		if TerminationSplices(f.TerminationMethod) < 0 {
+			c.bad(f.Pos, "", "termination_method", ErrBadValue, "want one of %s, got %q", strings.Join(Terminations(), ", "), f.TerminationMethod)
+		} else {
+			p.Termination = f.TerminationMethod
+		}
+	}
+	for _, n := range sortedInts(f.AttenuatorsEach) {
+		money(PriceKey{Item: PriceAttenuator, Count: n}, f.AttenuatorsEach[n])
 	}
 	ports("fibre_enclosures", PriceEnclosure, f.FibreEnclosures)
 	ports("adapter_panels", PriceAdapterPanel, f.AdapterPanels)

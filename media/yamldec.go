@@ -35,6 +35,10 @@ var ranges = map[string]input.Range{
 	// An application's reach: the longest single-mode reaches are tens of kilometres.
 	"reach-m":  {Min: 0, AboveMin: true, Max: 1000000, Unit: "metres"},
 	"per-hour": {Min: 0, AboveMin: true, Max: 1000000, Unit: "a number per hour"},
+	// Fixed attenuators come in whole dB, a few to a few tens.
+	"attenuator-db": {Min: 1, Max: 60, Whole: true, Unit: "dB"},
+	// Repair splices allowed per km of outside plant: a few at most.
+	"per-km": {Min: 0, Max: 100, Unit: "a number per km"},
 }
 
 // newDecoder is the walker for the media file name, adding its problems to errs.
