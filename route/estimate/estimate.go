@@ -556,6 +556,7 @@ func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg) []
 	if a := eng.Catalog().Application(l.Application); a != nil {
 		add(media.CategoryOptics, "transceiver "+a.Transceiver, media.UnitEach, 2, media.PriceKey{Item: media.PriceTransceiver, Name: a.Transceiver})
 	}
+	qs = append(qs, l.Attenuators...)
 	if t.Joins > 0 {
 		joins := float64(t.Joins) * n
 		add(media.CategoryMaterial, "splice closure, mid-span join", media.UnitEach, joins, media.PriceKey{Item: media.PriceSpliceClosure})

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"fmt"
+	"math"
 	"strconv"
 	"strings"
 
@@ -11,7 +12,6 @@ import (
 	"spanwright/media/install"
 	"spanwright/route"
 	"spanwright/route/escape"
-	"spanwright/route/routing"
 	"spanwright/route/workbook"
 )
 
@@ -33,6 +33,25 @@ func bomUnit(opt WriteOptions, l media.BOMLine) (unit string, qty, unitPrice flo
 		return "ft", install.MToFt(l.Quantity), unitPrice * install.MPerFt
 	}
 	return unit, qty, unitPrice
+}
+
+// perFoot writes the price per foot of a line of extendedCents over shownFt feet (as the row
+// shows them) with six decimals, or more, up to twelve, until shownFt × the price written is
+// the extended price to the cent: on a line of tens of thousands of feet six decimals can
+// leave it a cent out. Without feet it writes price.
+func perFoot(extendedCents int64, shownFt, price float64) string {
+	if shownFt <= 0 {
+		return strconv.FormatFloat(price, 'f', 6, 64)
+	}
+	exact := float64(extendedCents) / 100 / shownFt
+	var text string
+	for d := 6; d <= 12; d++ {
+		text = strconv.FormatFloat(exact, 'f', d, 64)
+		if v, _ := strconv.ParseFloat(text, 64); math.Abs(v*shownFt*100-float64(extendedCents)) < 0.5 {
+			break
+		}
+	}
+	return text
 }
 
 // qtyDecimals is how many decimals a BOM quantity shows: counts none, lengths one, hours two.
@@ -58,8 +77,8 @@ func pct(bp int64) string { return strconv.FormatFloat(float64(bp)/100, 'f', 2, 
 
 // bomCSV renders bom.csv: one row per line (category, item, unit, quantity, unit price,
 // extended price), then a subtotal row per category and for all, contingency, overhead,
-// tax and total. Money has two decimals; imperial unit prices per foot have six, and are the
-// extended price over the feet shown, so that each row multiplies out.
+// tax and total. Money has two decimals; imperial unit prices per foot are the extended price
+// over the feet shown, with six decimals or as many more as the row needs to multiply out.
 func bomCSV(r *route.Result, opt WriteOptions) ([]byte, error) {
 	b := r.Estimate.BOM
 	cur := strings.ToLower(b.Currency)
@@ -74,10 +93,7 @@ func bomCSV(r *route.Result, opt WriteOptions) ([]byte, error) {
 			// metric line's, in whole cents) over the quantity as shown, to six decimals, so
 			// that quantity × unit price is the extended price to the cent.
 			shown, _ := strconv.ParseFloat(q, 64)
-			if shown > 0 {
-				price = float64(l.ExtendedCents) / 100 / shown
-			}
-			p = strconv.FormatFloat(price, 'f', 6, 64)
+			p = perFoot(l.ExtendedCents, shown, price)
 		}
 		w.Write([]string{l.Category, describe(opt, l), unit, q, p, media.FormatCents(l.ExtendedCents)})
 	}
@@ -302,7 +318,7 @@ func bomXLSX(ctx context.Context, r *route.Result, opt WriteOptions) ([]byte, er
 		for _, x := range l.Losses {
 			row := []workbook.Cell{workbook.Text(l.Link.ID), workbook.Text(l.Name), workbook.Text(l.Medium), workbook.Text(l.Application),
 				workbook.Text(l.ConstructionText()), workbook.Int(int64(x.WavelengthNM)), workbook.Number(u.m(l.Cable.ChannelM), 1),
-				workbook.Int(routing.ConnectorPairs), workbook.Int(int64(l.Cable.Joins)), workbook.Number(x.LossDB, 2)}
+				workbook.Int(int64(x.Pairs)), workbook.Int(int64(x.Splices)), workbook.Number(x.LossDB, 2)}
 			if x.Operating {
 				row = append(row, workbook.Number(x.LimitDB, 2), workbook.Number(x.MarginDB, 2))
 			} else {

@@ -64,7 +64,7 @@ func Engine(p *Plan) (*media.Engine, error) {
 // the catalog, rule and price files, all that Engine reads.
 func EngineOptions(p *Plan) media.EngineOptions {
 	return media.EngineOptions{LossMarginDB: p.Design.LossMarginDB, AllowOutdoorCopper: p.Design.AllowOutdoorCopper,
-		PairLossDB: p.Design.PairLossDB, SpliceLossDB: p.Design.SpliceLossDB}
+		PairLossDB: p.Design.PairLossDB, SpliceLossDB: p.Design.SpliceLossDB, Termination: p.Design.Termination, CopperCordsM: p.Design.CopperCordsM}
 }
 
 // MaxCopperChannelM is the longest copper channel, in metres: a 90 m permanent link plus

@@ -10,6 +10,7 @@ import (
 	"go.yaml.in/yaml/v3"
 
 	"spanwright/geo/input"
+	"spanwright/media"
 )
 
 // Redundancy values of a link.
@@ -108,7 +109,12 @@ type Design struct {
 	SlackM             float64 `yaml:"slack_m"`        // slack per link end, in metres
 	PairLossDB         float64 `yaml:"pair_loss_db"`   // design loss per mated connector pair; 0 = catalog (TIA-568.3-D 0.75 dB)
 	SpliceLossDB       float64 `yaml:"splice_loss_db"` // design loss per splice; 0 = catalog (TIA-568.3-D 0.3 dB)
-	Objective          string  `yaml:"objective"`
+	// Termination is how fibre strands are terminated: media.TerminationSplicedPigtail,
+	// TerminationFieldConnector or TerminationFactory; "" = what the price book's termination
+	// price buys (its termination_method). Spliced pigtails add a splice at each end.
+	Termination  string  `yaml:"termination"`
+	CopperCordsM float64 `yaml:"copper_cords_m"` // patch and equipment cords of a copper channel, both ends; 0 = 10 m
+	Objective    string  `yaml:"objective"`
 
 	// Installation: what the cable takeoff and the pulling plan assume.
 	WastePct            float64 `yaml:"waste_pct"`              // cable bought beyond the measured length, in percent
@@ -173,7 +179,9 @@ func ParseCents(s string) (int64, error) {
 var Default = Plan{
 	Defaults: Defaults{Rate: "10G", Strands: 12, Growth: 0.5, Redundancy: RedundancyNone},
 	Design: Design{
-		LossMarginDB:   1.0,
+		// No margin of the plan's own: the catalog's margin policy (media/catalog.yaml,
+		// margins) says what each class of link keeps.
+		LossMarginDB:   0,
 		AllowNewTrench: true,
 		MaxLateralM:    30,
 		SnapM:          0.5,
@@ -295,6 +303,9 @@ func (p *Plan) validate(errs *input.Problems) {
 		}
 	}
 	g := p.Design
+	if t := g.Termination; t != "" && t != media.TerminationSplicedPigtail && t != media.TerminationFieldConnector && t != media.TerminationFactory {
+		bad("design.termination", input.ErrBadValue, "want %q, %q or %q, got %q", media.TerminationSplicedPigtail, media.TerminationFieldConnector, media.TerminationFactory, t)
+	}
 	if g.Objective != ObjectiveCost && g.Objective != ObjectiveLength {
 		bad("design.objective", input.ErrBadValue, "want %q or %q, got %q", ObjectiveCost, ObjectiveLength, g.Objective)
 	}
@@ -335,6 +346,8 @@ var planNumbers = []planNumber{
 	{key: "design.slack_m", r: input.Range{Min: 0, Max: 1000, Unit: "metres"}},
 	{key: "design.pair_loss_db", r: input.Range{Min: 0, Max: 10, Unit: "dB"}},
 	{key: "design.splice_loss_db", r: input.Range{Min: 0, Max: 10, Unit: "dB"}},
+	// ANSI/TIA-568.2 allows 10 m of cords in a 100 m channel; more is a longer channel.
+	{key: "design.copper_cords_m", r: input.Range{Min: 0, Max: 100, Unit: "metres"}},
 	{key: "design.waste_pct", r: input.Range{Min: 0, Max: 100, Unit: "a percentage"}},
 	{key: "design.slack_loop_entrance_m", r: input.Range{Min: 0, Max: 1000, Unit: "metres"}},
 	{key: "design.slack_loop_structure_m", r: input.Range{Min: 0, Max: 1000, Unit: "metres"}},

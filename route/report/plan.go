@@ -326,7 +326,15 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 			v.BudgetBar.Class = "over"
 		}
 	}
-	v.DesignDB = dB(r.Plan.Design.LossMarginDB)
+	// The margin the worst leg must keep: its class's, by the catalog's margin policy, or the
+	// plan's loss_margin_db when that is larger (media.Loss.RequiredMarginDB).
+	worstMargin, required := 0.0, 0.0
+	for _, l := range r.Legs {
+		if w, ok := l.WorstLoss(); ok && l.Feasible && (required == 0 && worstMargin == 0 || w.MarginDB < worstMargin) {
+			worstMargin, required = w.MarginDB, w.RequiredMarginDB
+		}
+	}
+	v.DesignDB = dB(required)
 
 	// Media in catalog order, then any the catalog does not know, by id.
 	used := map[string]bool{}
@@ -565,7 +573,7 @@ func legRows(r *route.Result, opt Options, med map[string]mediumInfo, names map[
 			switch {
 			case worst.MarginDB < 0:
 				b.Class = "bad"
-			case worst.MarginDB < r.Plan.Design.LossMarginDB:
+			case worst.MarginDB < worst.RequiredMarginDB:
 				b.Class = "thin"
 			}
 			row.Bar = b

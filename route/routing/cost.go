@@ -33,6 +33,14 @@ func CableStrands(required int, growth float64) int {
 	return (n + big - 1) / big * big
 }
 
+// CopperCables is the number of 4-pair cables a copper link of required strands (two per port
+// pair) with growth needs: one per port pair asked, not per strand of the fibre cable size the
+// count would round up to (ANSI/TIA-568.2: a 4-pair cable serves one port).
+func CopperCables(required int, growth float64) int {
+	n := int(math.Ceil(float64(required)*(1+growth) - 1e-9))
+	return max(1, (n+1)/2)
+}
+
 // ConnectorPairs is the number of mated connector pairs in a backbone channel: one patch
 // panel at each end (ANSI/TIA-568.3-D channel model).
 const ConnectorPairs = 2
@@ -281,8 +289,14 @@ func demand(s *site.Site, m *Model, l *site.Link) (optimize.Demand, demandInfo) 
 	endLoops := (items.LoopM(s, d, src.Junction) + items.LoopM(s, d, dst.Junction)) / 2
 	ends := riser + lateral + coils + endLoops
 	endItems := append(items.LegEnds(riser, coils, lateral), items.StructureLoops(endLoops)...)
+	// Inside each end's building: its riser, its service coil and its entrance loop (the
+	// route's own spans inside it are added per leg, fillLeg) — NFPA 70 770.48 counts
+	// unlisted cable from the point of entrance.
+	insideTo := s.RiserM(l.To) + d.SlackM + d.SlackLoopEntranceM
+	insideFrom := s.RiserM(l.From) + d.SlackM + d.SlackLoopEntranceM
 	facts := media.Link{ID: l.ID, RiserM: riser, SlackM: slack, RateGbps: rate, FutureRateGbps: future,
-		MaxEMI: geo.EMINone, ConnectorPairs: ConnectorPairs, Strands: strands}
+		MaxEMI: geo.EMINone, ConnectorPairs: ConnectorPairs, Strands: strands, CopperCables: CopperCables(l.Strands, l.Growth),
+		InsideAM: insideTo, InsideBM: insideFrom}
 	info := demandInfo{facts: facts, rate: rate, strands: strands}
 	dm := optimize.Demand{ID: l.ID, Source: int(srcN), Target: int(dstN), Diverse: l.Diverse}
 	for _, med := range m.eng.Media() {
@@ -300,7 +314,7 @@ func demand(s *site.Site, m *Model, l *site.Link) (optimize.Demand, demandInfo) 
 		maxCh := m.eng.MaxChannelM(med, rate, future, facts)
 		maxRoute := maxCh - riser - slack - lateral
 		perM := m.cableFor(med, rate, facts, coils+2*endLoops)
-		fixed := m.eng.FixedCents(med, rate, strands)
+		fixed := m.eng.FixedCentsFor(med, rate, facts)
 		switch {
 		case perM < 0 || fixed < 0:
 			info.excluded = append(info.excluded, fmt.Sprintf("%s: the price book prices no cable, termination or transceiver it needs at %s", med, media.FormatRate(rate)))
@@ -318,7 +332,7 @@ func demand(s *site.Site, m *Model, l *site.Link) (optimize.Demand, demandInfo) 
 		if l.Diverse {
 			second = fixed
 		}
-		od := cableOD(mm, strands)
+		od := cableOD(mm, strands, facts.CopperCables)
 		if d.Innerduct() {
 			if !items.InnerductFits(d, od) {
 				exclude |= flagDuct
@@ -356,9 +370,9 @@ func (m *Model) cableFor(medium string, rate float64, facts media.Link, slackM f
 
 // cableOD is the outside diameter in millimetres of the outdoor-rated cable of the medium
 // for the strands, or of its first construction when none is outdoor-rated.
-func cableOD(m *media.Medium, strands int) float64 {
+func cableOD(m *media.Medium, strands, copperCables int) float64 {
 	if m.Kind == media.KindCopper {
-		strands = (strands + 1) / 2
+		strands = copperCables
 	}
 	for _, k := range m.Constructions {
 		if k.OutdoorRated {

@@ -2,6 +2,7 @@ package routing
 
 import (
 	"fmt"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -44,6 +45,10 @@ type Leg struct {
 	// Cable is the leg's cable takeoff: slack loops, length bought, reels and the mid-span
 	// splices between them, which the loss budget counts (see CableTakeoff).
 	Cable CableTakeoff
+
+	// Attenuators is the bill item of the attenuators a receiver needs on a channel below
+	// its application's least loss (receiver overload); empty when none.
+	Attenuators []media.Quantity
 
 	Cost LegCost
 }
@@ -128,6 +133,9 @@ func fillLeg(s *site.Site, cm *Model, leg *Leg, ol optimize.Leg, medium string, 
 	}
 	facts := info.facts
 	facts.RouteM = leg.RouteM
+	// The spans of the route drawn inside an end's building are inside it too.
+	facts.InsideAM += interiorM(s, leg.Link.To, ol)
+	facts.InsideBM += interiorM(s, leg.Link.From, ol)
 	facts.MaxEMI = emi
 	facts.Outdoor = outdoor
 	facts.Plenum = plenum
@@ -149,6 +157,9 @@ func fillLeg(s *site.Site, cm *Model, leg *Leg, ol optimize.Leg, medium string, 
 	leg.Cable.Fit(cm.eng.Catalog(), ch, leg.RiserM, cm.design.WastePct)
 	leg.Medium, leg.Application, leg.Construction, leg.Inside = ch.Medium, ch.Application, ch.Construction, ch.Inside
 	leg.Losses = ch.Losses
+	if q, ok := ch.AttenuatorQuantity(); ok {
+		leg.Attenuators = []media.Quantity{q}
+	}
 	leg.WorstMarginDB = worstMargin(ch.Losses)
 	if ch.Medium != medium {
 		leg.Choice += fmt.Sprintf(" (the optimizer routed it for %s)", medium)
@@ -225,4 +236,19 @@ func fillReport(s *site.Site, prob *optimize.Problem, sol *optimize.Solution) []
 	}
 	sort.Slice(out, func(i, j int) bool { return out[i].Span < out[j].Span })
 	return out
+}
+
+// interiorM is the metres of the route's spans drawn inside building b (geo.Transit.Interior).
+func interiorM(s *site.Site, b string, ol optimize.Leg) float64 {
+	t, ok := s.Net.TransitOf(b)
+	if !ok || len(t.Interior) == 0 {
+		return 0
+	}
+	m := 0.0
+	for _, h := range ol.Hops {
+		if sp := &s.Net.Spans[h.Edge]; slices.Contains(t.Interior, sp.PathwayID) {
+			m += sp.LengthM
+		}
+	}
+	return m
 }
