@@ -250,7 +250,9 @@ func (ps *pairScratch) dijkstra(s, t int32, w func(e, from, to int32) (int64, bo
 		}
 		v := x / 2
 		if x == inState(v) { // split arc
-			ps.relax(x, outState(v), -1, ps.dist[x], st)
+			if net.transit(v, int(s)) {
+				ps.relax(x, outState(v), -1, ps.dist[x], st)
+			}
 			continue
 		}
 		for _, a := range net.adj[net.start[v]:net.start[v+1]] {
@@ -351,7 +353,7 @@ func (ps *pairScratch) residual(s, t int32, w func(e, from, to int32) (int64, bo
 				we, _ := w(e, ps.p1Prev[v], v)
 				u := outState(ps.p1Prev[v])
 				ps.relax(x, u, e, dx+red(x, u, -we), st)
-			} else {
+			} else if net.transit(v, int(s)) {
 				ps.relax(x, outState(v), -1, dx+red(x, outState(v), 0), st)
 			}
 			continue

@@ -25,6 +25,8 @@ type rerouteMemo struct {
 	epoch    uint64
 	freeHash uint64  // solver.freeHash when recorded
 	sig      uint64  // the choice's signature (state.sig)
+	charges  uint64  // solver.chargeHash when recorded
+	chSig    uint64  // ownCharges' hash of the shared charges of the choice then
 	stay     int64   // the weight of staying then
 	edges    []int32 // edges whose weights the searches read
 	levels   []uint8 // priceLevel of each then
@@ -119,6 +121,10 @@ func (sv *solver) startRecord() {
 func (sv *solver) remember(d int, sig uint64, stay int64) {
 	m := &sv.memos[d]
 	m.ok, m.epoch, m.freeHash, m.sig, m.stay = true, sv.epoch, sv.freeHash, sig, stay
+	if sv.chOn {
+		_, m.chSig = sv.ownCharges(sv.st.ch[d])
+		m.charges = sv.chargeHash
+	}
 	m.edges = append(m.edges[:0], sv.qList...)
 	m.levels = m.levels[:0]
 	for _, e := range sv.qList {
@@ -151,6 +157,10 @@ func (sv *solver) stayWeight(d int, c choice) (int64, bool) {
 			}
 		}
 	}
+	if sv.chOn {
+		own, _ := sv.ownCharges(c)
+		w += own
+	}
 	return w, true
 }
 
@@ -159,6 +169,13 @@ func (sv *solver) memoHolds(d int) bool {
 	m := &sv.memos[d]
 	if !m.ok || m.epoch != sv.epoch || m.freeHash != sv.freeHash || m.sig != sv.st.sig[d] {
 		return false
+	}
+	if sv.chOn {
+		// The same charges paid by the others: with d in the plan (chargeHash) and, among
+		// those d's route uses, by demands other than d (chSig).
+		if _, sig := sv.ownCharges(sv.st.ch[d]); m.charges != sv.chargeHash || sig != m.chSig {
+			return false
+		}
 	}
 	if w, ok := sv.stayWeight(d, sv.st.ch[d]); !ok || w > m.stay {
 		return false
