@@ -236,18 +236,7 @@ func withTransitCharges(p *Problem, turns int) *Problem {
 		q.NoTransit[d.Source] = true
 		ends[d.Target] = true
 	}
-	incident := func(v int) (prop, exist []int) {
-		for e, ed := range q.Edges {
-			if ed.From == v || ed.To == v {
-				if ed.Proposed {
-					prop = append(prop, e)
-				} else {
-					exist = append(exist, e)
-				}
-			}
-		}
-		return prop, exist
-	}
+	incident := func(v int) (prop, exist []int) { return incidentEdges(q, v) }
 	for v := 0; v < q.Nodes; v++ {
 		if prop, exist := incident(v); len(prop) > 0 && len(exist) > 0 {
 			q.Charges = append(q.Charges, Charge{ID: fmt.Sprintf("handhole %d", v), Edges: prop, Cents: 60000})
@@ -283,4 +272,18 @@ func withTransitCharges(p *Problem, turns int) *Problem {
 		q.Charges = append(q.Charges, c)
 	}
 	return q
+}
+
+// incidentEdges returns the proposed and the existing edges that meet node v, in edge order.
+func incidentEdges(p *Problem, v int) (prop, exist []int) {
+	for e, ed := range p.Edges {
+		if ed.From == v || ed.To == v {
+			if ed.Proposed {
+				prop = append(prop, e)
+			} else {
+				exist = append(exist, e)
+			}
+		}
+	}
+	return prop, exist
 }

@@ -325,16 +325,7 @@ func randomTransitCharges(seed uint64) *Problem {
 		if len(p.Charges) == 4 {
 			break
 		}
-		var prop, exist []int
-		for e, ed := range p.Edges {
-			if ed.From == v || ed.To == v {
-				if ed.Proposed {
-					prop = append(prop, e)
-				} else {
-					exist = append(exist, e)
-				}
-			}
-		}
+		prop, exist := incidentEdges(p, v)
 		switch {
 		case len(prop) > 0 && len(exist) > 0 && r.IntN(2) == 0:
 			p.Charges = append(p.Charges, Charge{ID: fmt.Sprintf("handhole %d", v), Edges: prop, Cents: 20000 + int64(r.IntN(60000))})
