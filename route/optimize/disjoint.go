@@ -18,6 +18,9 @@ package optimize
 // topology (the shortest path uses the one "bridge" both disjoint paths need); step 3 undoes
 // that choice, so the pair is optimal whenever a pair exists.
 //
+// A transit-free node (Problem.NoTransit) other than s and t loses its split arc v_in → v_out:
+// it is a node removed, so the pair stays optimal on what remains.
+//
 // When step 3 finds no path, the maximum number of node-disjoint paths is one, and the set R
 // of states reachable in the residual network is a minimum cut: P1 leaves R through exactly one
 // arc, which is the single point of failure — an edge arc (a bridge between s and t) or a split

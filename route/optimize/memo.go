@@ -13,7 +13,10 @@ import "slices"
 // settles every node whose weight plus lower bound is below the route it returns, and the
 // lower-bound trees stay valid while no edge opens). So best(d) would find nothing cheaper
 // than staying, and the reroute would change nothing. Comparing prices, not counting
-// changes, lets moves that were tried and reverted leave the memos intact.
+// changes, lets moves that were tried and reverted leave the memos intact. With charges, the
+// memo also needs the same charges paid (with d in the plan) and, among the charges d's
+// route uses, the same ones used by other demands too: then every charge costs d's searches
+// what it cost them.
 //
 // Memos serve the cost objective with the default duct rule only: the length objective
 // chooses the medium on cents after routing on metres, which the argument above does not

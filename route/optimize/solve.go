@@ -20,7 +20,8 @@ import (
 //     planTreeNodes or more, plan trees (bound.go) also charge the edges not yet opened, and
 //     serve instead while they stay valid.
 //  2. A starting plan: demands routed one by one in demand order with each unopened proposed
-//     edge charged its full FixedCents (edges opened by earlier demands are free). Each demand
+//     edge charged its full FixedCents and each unpaid charge its Cents (edges opened and
+//     charges paid by earlier demands are free). Each demand
 //     takes the option whose route (within reach: LARAC and an exact label search, see
 //     rcsp.go) plus option cost is cheapest; diverse demands take a diverse pair (disjoint.go,
 //     pair.go).
@@ -28,15 +29,20 @@ import (
 //     each demand against the others' plan (an edge only it uses costs its full FixedCents, so
 //     leaving it saves that); close an opened edge (forbid it, reroute its users, keep if
 //     cheaper); open a run of proposed edges that some demand's unconstrained cheapest route
-//     uses (treat it as free, reroute the demands it may help, keep if cheaper). Open moves are
+//     uses (treat it as free, reroute the demands it may help, keep if cheaper); drop a paid
+//     charge (forbid its edges, reroute its users, keep if cheaper). Open moves are
 //     screened first by bounds and by an in-place estimate, and a failed move is not retried
 //     until a demand it involves changes route. A reroute is skipped when its memo shows that
 //     no edge its last searches read has become cheaper (memo.go): it would change nothing.
-//  4. On problems with demands × proposed edges up to maxSecondStart, a second start routes the
-//     first pass with every proposed edge free and is searched the same way; the cheaper plan
-//     is kept. Up to maxKickWork, an iterated local search then perturbs the optimum (open a
-//     run that could pay for itself, or forbid an opened edge), moves the demands concerned
-//     and descends again, keeping improvements and stopping at optima already seen.
+//  4. On problems with demands × (proposed edges + charges) up to maxSecondStart, a second
+//     start routes the first pass with every proposed edge and charge free and is searched the
+//     same way; the cheaper plan is kept. Up to maxKickWork (demands × proposed edges), an
+//     iterated local search then perturbs the optimum (open a run that could pay for itself,
+//     or forbid an opened edge), moves the demands concerned and descends again, keeping
+//     improvements and stopping at optima already seen.
+//
+// Transit-free nodes (Problem.NoTransit) end every search path that reaches them, except at
+// the search's own root and goal.
 //
 // Every move is kept only when the exact plan cost — compared lexicographically after the number
 // of capacity violations, unrouted demands and diverse demands without a pair, then by total
@@ -476,8 +482,9 @@ func (sv *solver) lenTreeOf(anchor, c int) *tree {
 }
 
 // weightFor returns demand d's marginal weight for option o against the current state: the
-// profile's base weight, plus FixedCents on an unopened proposed edge, plus the price of any
-// ducts its cable would add. It starts a new penalty memo.
+// profile's base weight, plus FixedCents on an unopened proposed edge, plus the Cents of each
+// of the edge's charges that no other demand pays, plus the price of any ducts its cable
+// would add. It starts a new penalty memo.
 func (sv *solver) weightFor(d, o int) func(e int32) (int64, bool) {
 	sv.penN++
 	if sv.penN == 0 {
