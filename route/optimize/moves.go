@@ -15,6 +15,9 @@ func (sv *solver) reroute(d int) bool {
 	before := sv.key()
 	memo := sv.memoUsable() && sv.st.ch[d].opt >= 0
 	if memo && sv.memoHolds(d) {
+		if sv.memoAudit {
+			sv.auditMemo(d, before)
+		}
 		return false
 	}
 	var stay int64
@@ -46,6 +49,22 @@ func (sv *solver) reroute(d int) bool {
 	sv.add(d, old)
 	sv.flush()
 	return false
+}
+
+// auditMemo reroutes demand d although its memo holds, counts in memoWrong a reroute that
+// would have improved the plan (the memo was wrong to skip it), and puts d back.
+func (sv *solver) auditMemo(d int, before key) {
+	sig := sv.st.sig[d]
+	old, nb := sv.rebest(d)
+	if choiceSig(nb) != sig {
+		sv.add(d, nb)
+		if sv.key().less(before) {
+			sv.memoWrong++
+		}
+		sv.remove(d)
+	}
+	sv.add(d, old)
+	sv.flush()
 }
 
 // rebest takes demand d out of the plan and returns its old choice and its best choice

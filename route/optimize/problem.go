@@ -263,7 +263,10 @@ func validate(p *Problem, s Settings) error {
 	if len(p.NoTransit) != 0 && len(p.NoTransit) != p.Nodes {
 		bad("no-transit marks: want none or one per node (%d), got %d", p.Nodes, len(p.NoTransit))
 	}
-	seen := make([]int, len(p.Edges)) // edge → 1 + the last charge that listed it
+	var seen []int // edge → 1 + the last charge that listed it
+	if len(p.Charges) > 0 {
+		seen = make([]int, len(p.Edges))
+	}
 	for i := range p.Charges {
 		c := &p.Charges[i]
 		name := ref{"charge", i, c.ID}

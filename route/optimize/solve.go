@@ -174,8 +174,12 @@ type solver struct {
 	qStamp uint32
 	qList  []int32
 	qLevel []uint8 // per edge: priceLevel when a memo search read it
-	ord    []int32 // openMoves' estimate order
-	plainW int64   // weight of the last pair found too long for its reach
+	// For the test of the memos: memoAudit reroutes every demand whose memo holds
+	// (auditMemo) and counts in memoWrong the reroutes that would have improved the plan.
+	memoAudit bool
+	memoWrong int
+	ord       []int32 // openMoves' estimate order
+	plainW    int64   // weight of the last pair found too long for its reach
 	// Charges (Problem.Charges): the charges of edge e are chList[chStart[e]:chStart[e+1]]
 	// (nil without charges); chOn says whether the searches and the plan cost price them
 	// (not for the length objective). chargeHash is the set hash of the charges paid.
