@@ -54,7 +54,8 @@ var (
 // BenchmarkSolveTransitCharges solves the campuses of BenchmarkSolve drawn as the route layer
 // draws them (withTransitCharges: buildings transit-free, a handhole charge wherever proposed
 // trenches meet duct, and a tenth of the buildings' worth of junctions split into turn nodes
-// under a pull-box charge), for the cost of the two features.
+// under a pull-box charge): "drawn" with the marks and charges, "bare" the same graph without
+// them, so the difference is the cost of the two features.
 func BenchmarkSolveTransitCharges(b *testing.B) {
 	benchTCOnce.Do(func() {
 		benchTCCampuses = map[int]*Problem{}
@@ -63,20 +64,30 @@ func BenchmarkSolveTransitCharges(b *testing.B) {
 		}
 	})
 	for _, n := range benchTCSizes {
-		b.Run(fmt.Sprintf("buildings_%d", n), func(b *testing.B) {
+		for _, drawn := range []bool{false, true} {
+			name := fmt.Sprintf("buildings_%d/bare", n)
 			p := benchTCCampuses[n]
-			b.ReportAllocs()
-			b.ResetTimer()
-			var sol *Solution
-			for i := 0; i < b.N; i++ {
-				var err error
-				if sol, err = Solve(p, Settings{}); err != nil {
-					b.Fatal(err)
-				}
+			if drawn {
+				name = fmt.Sprintf("buildings_%d/drawn", n)
+			} else {
+				bare := *p
+				bare.NoTransit, bare.Charges = nil, nil
+				p = &bare
 			}
-			b.ReportMetric(float64(len(p.Charges)), "charges")
-			b.ReportMetric(float64(len(sol.Charged)), "paid")
-			b.ReportMetric(float64(len(sol.Infeasible)), "infeasible")
-		})
+			b.Run(name, func(b *testing.B) {
+				b.ReportAllocs()
+				b.ResetTimer()
+				var sol *Solution
+				for i := 0; i < b.N; i++ {
+					var err error
+					if sol, err = Solve(p, Settings{}); err != nil {
+						b.Fatal(err)
+					}
+				}
+				b.ReportMetric(float64(len(sol.Charged)), "paid")
+				b.ReportMetric(float64(len(sol.Infeasible)), "infeasible")
+				b.ReportMetric(float64(sol.Rounds), "rounds")
+			})
+		}
 	}
 }
