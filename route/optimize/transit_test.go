@@ -210,3 +210,25 @@ func TestInvalidTransitAndCharges(t *testing.T) {
 		}
 	}
 }
+
+// TestLengthObjectiveCharges: under the length objective the searches ignore cents, but the
+// Solution still prices what the routes use: every charge they touch is listed and split
+// (verify recomputes both), and no leg passes a transit-free node.
+func TestLengthObjectiveCharges(t *testing.T) {
+	t.Parallel()
+	paid := 0
+	for seed := uint64(1); seed <= 30; seed++ {
+		p := randomTransitCharges(seed)
+		sol, err := Solve(p, Settings{Objective: ObjectiveLength})
+		if err != nil {
+			t.Fatal(err)
+		}
+		verify(t, fmt.Sprintf("seed %d", seed), p, sol)
+		if len(sol.Charged) > 0 {
+			paid++
+		}
+	}
+	if paid == 0 {
+		t.Error("no plan paid a charge: the instances do not exercise charges")
+	}
+}
