@@ -144,7 +144,7 @@ type Solution struct {
 	Routes     []Route      // one per demand, in demand order
 	Infeasible []Infeasible // in demand order
 	Opened     []int        // proposed edges the plan opens, ascending
-	Charged    []int        // charges (indices into Problem.Charges) the plan pays, ascending
+	Charged    []int        // charges (indices into Problem.Charges) whose edges carry a route, ascending
 	Fill       []EdgeFill   // edges that carry cables, ascending by edge index
 	TotalCents int64        // Σ Routes[i].Cost.Total()
 	TotalM     float64      // Σ route metres over all legs
