@@ -44,3 +44,50 @@ func BenchmarkSolve(b *testing.B) {
 		})
 	}
 }
+
+var (
+	benchTCOnce     sync.Once
+	benchTCCampuses map[int]*Problem
+	benchTCSizes    = []int{100, 1000}
+)
+
+// BenchmarkSolveTransitCharges solves the campuses of BenchmarkSolve drawn as the route layer
+// draws them (withTransitCharges: buildings transit-free, a handhole charge wherever proposed
+// trenches meet duct, and a tenth of the buildings' worth of junctions split into turn nodes
+// under a pull-box charge): "drawn" with the marks and charges, "bare" the same graph without
+// them, so the difference is the cost of the two features.
+func BenchmarkSolveTransitCharges(b *testing.B) {
+	benchTCOnce.Do(func() {
+		benchTCCampuses = map[int]*Problem{}
+		for _, s := range benchTCSizes {
+			benchTCCampuses[s] = withTransitCharges(benchCampus(s), s/10)
+		}
+	})
+	for _, n := range benchTCSizes {
+		for _, drawn := range []bool{false, true} {
+			name := fmt.Sprintf("buildings_%d/bare", n)
+			p := benchTCCampuses[n]
+			if drawn {
+				name = fmt.Sprintf("buildings_%d/drawn", n)
+			} else {
+				bare := *p
+				bare.NoTransit, bare.Charges = nil, nil
+				p = &bare
+			}
+			b.Run(name, func(b *testing.B) {
+				b.ReportAllocs()
+				b.ResetTimer()
+				var sol *Solution
+				for i := 0; i < b.N; i++ {
+					var err error
+					if sol, err = Solve(p, Settings{}); err != nil {
+						b.Fatal(err)
+					}
+				}
+				b.ReportMetric(float64(len(sol.Charged)), "paid")
+				b.ReportMetric(float64(len(sol.Infeasible)), "infeasible")
+				b.ReportMetric(float64(sol.Rounds), "rounds")
+			})
+		}
+	}
+}

@@ -103,6 +103,12 @@ func (sv *solver) freeSetIs(freeAt []bool) bool {
 
 // recount recomputes the plan trees' counters, after the state was replaced.
 func (sv *solver) recount() {
+	sv.chargeHash = 0
+	for k, u := range sv.st.chUse {
+		if u > 0 {
+			sv.chargeHash ^= mix(uint64(k), 29)
+		}
+	}
 	sv.freeHash = 0
 	for _, e := range sv.proposed {
 		if sv.freeNow(e) {

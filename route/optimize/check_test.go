@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"slices"
 	"testing"
 )
 
@@ -82,6 +83,14 @@ func verifyErr(p *Problem, sol *Solution) error {
 			if v != dm.Target {
 				return fmt.Errorf("demand %d leg %d: ends at %d, want %d", d, li, v, dm.Target)
 			}
+			if len(p.NoTransit) > 0 {
+				nodes := leg.Nodes(p.Edges)
+				for _, u := range nodes[1 : len(nodes)-1] {
+					if p.NoTransit[u] {
+						return fmt.Errorf("demand %d leg %d: passes transit-free node %d", d, li, u)
+					}
+				}
+			}
 			if math.Abs(lm-leg.LengthM) > 1e-6 {
 				return fmt.Errorf("demand %d leg %d: length %v, edges sum to %v", d, li, leg.LengthM, lm)
 			}
@@ -99,7 +108,7 @@ func verifyErr(p *Problem, sol *Solution) error {
 		if len(legs) == 2 {
 			b.FixedCents += op.SecondLegCents
 		}
-		r.Cost.ConstructionShareCents, r.Cost.AddedDuctCents = 0, 0
+		r.Cost.ConstructionShareCents, r.Cost.AddedDuctCents, r.Cost.ChargeShareCents = 0, 0, 0
 		if b != r.Cost {
 			return fmt.Errorf("demand %d: breakdown %+v, recomputed %+v", d, r.Cost, b)
 		}
@@ -129,10 +138,39 @@ func verifyErr(p *Problem, sol *Solution) error {
 		}
 		shares[first] += f - share*int64(len(us))
 	}
+	// Charges: paid once when any of their edges carries a route, split like construction.
+	chShares := make([]int64, len(p.Demands))
+	var charged []int
+	for k, c := range p.Charges {
+		var us []int
+		for d := range p.Demands {
+			for _, e := range c.Edges {
+				if slices.Contains(users[e], d) {
+					us = append(us, d)
+					break
+				}
+			}
+		}
+		if len(us) == 0 {
+			continue
+		}
+		charged = append(charged, k)
+		share := c.Cents / int64(len(us))
+		for _, u := range us {
+			chShares[u] += share
+		}
+		chShares[us[0]] += c.Cents - share*int64(len(us))
+	}
+	if fmt.Sprint(charged) != fmt.Sprint(sol.Charged) {
+		return fmt.Errorf("charged %v, charges used %v", sol.Charged, charged)
+	}
 	var ducts int64
 	for d, r := range sol.Routes {
 		if r.Cost.ConstructionShareCents != shares[d] {
 			return fmt.Errorf("demand %d: construction share %d, want %d", d, r.Cost.ConstructionShareCents, shares[d])
+		}
+		if r.Cost.ChargeShareCents != chShares[d] {
+			return fmt.Errorf("demand %d: charge share %d, want %d", d, r.Cost.ChargeShareCents, chShares[d])
 		}
 		ducts += r.Cost.AddedDuctCents
 		total += r.Cost.Total()

@@ -18,6 +18,9 @@ package optimize
 // topology (the shortest path uses the one "bridge" both disjoint paths need); step 3 undoes
 // that choice, so the pair is optimal whenever a pair exists.
 //
+// A transit-free node (Problem.NoTransit) other than s and t loses its split arc v_in → v_out:
+// it is a node removed, so the pair stays optimal on what remains.
+//
 // When step 3 finds no path, the maximum number of node-disjoint paths is one, and the set R
 // of states reachable in the residual network is a minimum cut: P1 leaves R through exactly one
 // arc, which is the single point of failure — an edge arc (a bridge between s and t) or a split
@@ -250,7 +253,9 @@ func (ps *pairScratch) dijkstra(s, t int32, w func(e, from, to int32) (int64, bo
 		}
 		v := x / 2
 		if x == inState(v) { // split arc
-			ps.relax(x, outState(v), -1, ps.dist[x], st)
+			if net.transit(v, int(s)) {
+				ps.relax(x, outState(v), -1, ps.dist[x], st)
+			}
 			continue
 		}
 		for _, a := range net.adj[net.start[v]:net.start[v+1]] {
@@ -351,7 +356,7 @@ func (ps *pairScratch) residual(s, t int32, w func(e, from, to int32) (int64, bo
 				we, _ := w(e, ps.p1Prev[v], v)
 				u := outState(ps.p1Prev[v])
 				ps.relax(x, u, e, dx+red(x, u, -we), st)
-			} else {
+			} else if net.transit(v, int(s)) {
 				ps.relax(x, outState(v), -1, dx+red(x, outState(v), 0), st)
 			}
 			continue

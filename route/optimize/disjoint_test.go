@@ -105,8 +105,9 @@ func connected(n int, edges []Edge, s, t int, skip func(i int) bool) bool {
 	return seen[t]
 }
 
-// simplePaths enumerates every simple path from s to t by depth-first search.
-func simplePaths(n int, edges []Edge, s, t int) [][]int {
+// simplePaths enumerates every simple path from s to t by depth-first search, passing no
+// node marked in noTransit (nil: none).
+func simplePaths(n int, edges []Edge, s, t int, noTransit []bool) [][]int {
 	var out [][]int
 	onPath := make([]bool, n)
 	var path []int
@@ -114,6 +115,9 @@ func simplePaths(n int, edges []Edge, s, t int) [][]int {
 	dfs = func(v int) {
 		if v == t {
 			out = append(out, append([]int(nil), path...))
+			return
+		}
+		if v != s && noTransit != nil && noTransit[v] {
 			return
 		}
 		onPath[v] = true
@@ -140,8 +144,8 @@ func simplePaths(n int, edges []Edge, s, t int) [][]int {
 
 // bruteBestPair returns the least total length of two paths sharing no edge, interior node
 // or (when groups) group, or -1.
-func bruteBestPair(n int, edges []Edge, s, t int, groups bool) float64 {
-	paths := simplePaths(n, edges, s, t)
+func bruteBestPair(n int, edges []Edge, s, t int, groups bool, noTransit []bool) float64 {
+	paths := simplePaths(n, edges, s, t, noTransit)
 	best := -1.0
 	for i := range paths {
 		for j := i + 1; j < len(paths); j++ {
@@ -203,27 +207,40 @@ func randomGraph(r *rand.Rand, groups bool) (int, []Edge) {
 // small random multigraphs. Without groups Suurballe's pair must be optimal; with groups the
 // pair must be group-disjoint and no cheaper than the brute-force optimum, and the heuristic's
 // hit rate is reported. When no pair exists the single point of failure must really separate
-// the ends (checked by removing it).
+// the ends (checked by removing it). The third pass marks about a fifth of the other nodes
+// transit-free (Problem.NoTransit): a transit-free node is a node removed from the paths
+// between the ends, so Suurballe's pair (Bhandari 1999, ch. 3–4) must still be optimal.
 func TestDiversePairsBruteForce(t *testing.T) {
 	t.Parallel()
-	for _, groups := range []bool{false, true} {
-		r := rand.New(rand.NewPCG(7, map[bool]uint64{false: 1, true: 2}[groups]))
+	for pass, groups := range []bool{false, true, false} {
+		transit := pass == 2
+		r := rand.New(rand.NewPCG(7, uint64(pass+1)))
 		exact, found, exists, spof := 0, 0, 0, 0
 		const cases = 300
 		for c := 0; c < cases; c++ {
 			n, edges := randomGraph(r, groups)
 			s, tt := 0, n-1
-			if !connected(n, edges, s, tt, nil) {
+			var noTransit []bool
+			if transit {
+				noTransit = make([]bool, n)
+				for v := 1; v < n-1; v++ {
+					noTransit[v] = r.IntN(5) == 0
+				}
+			}
+			if !connected(n, edges, s, tt, func(i int) bool {
+				return noTransit != nil && (noTransit[edges[i].From] || noTransit[edges[i].To])
+			}) {
 				continue
 			}
 			p := unitProblem(n, append([]Edge(nil), edges...), s, tt)
+			p.NoTransit = noTransit
 			sol, err := Solve(p, Settings{})
 			if err != nil {
 				t.Fatal(err)
 			}
-			name := fmt.Sprintf("groups=%v case %d", groups, c)
+			name := fmt.Sprintf("groups=%v transit=%v case %d", groups, transit, c)
 			verify(t, name, p, sol)
-			want := bruteBestPair(n, edges, s, tt, groups)
+			want := bruteBestPair(n, edges, s, tt, groups, noTransit)
 			rt := sol.Routes[0]
 			got := -1.0
 			if len(rt.Secondary.Hops) > 0 {
@@ -263,6 +280,14 @@ func TestDiversePairsBruteForce(t *testing.T) {
 				if sp.Kind == PointNode && (sp.Index == s || sp.Index == tt) {
 					t.Fatalf("%s: single point is an end node", name)
 				}
+				if transit {
+					// Transit-free nodes are removed too: they carry no path between the ends.
+					skip := skipE
+					skipE = func(i int) bool {
+						e := edges[i]
+						return skip(i) || noTransit[e.From] || noTransit[e.To]
+					}
+				}
 				if connected(n, edges, s, tt, skipE) {
 					t.Fatalf("%s: removing %s %d does not disconnect the ends", name, sp.Kind, sp.Index)
 				}
@@ -271,8 +296,8 @@ func TestDiversePairsBruteForce(t *testing.T) {
 				t.Fatalf("%s: no pair and no separating single point (note %q)", name, rt.Note)
 			}
 		}
-		t.Logf("groups=%v: %d cases with a pair, Solve found %d, optimal %d; %d single points verified",
-			groups, exists, found, exact, spof)
+		t.Logf("groups=%v transit=%v: %d cases with a pair, Solve found %d, optimal %d; %d single points verified",
+			groups, transit, exists, found, exact, spof)
 		if groups && found*100 < 95*exists {
 			t.Errorf("groups: found %d of %d existing group-disjoint pairs, want at least 95 %%", found, exists)
 		}

@@ -9,9 +9,24 @@
 //
 //	Σ demands Σ legs Σ edges   round(CableM × CablePerMCents) + round(LengthM × LabourPerMCents) + PerCableCents
 //	+ Σ opened proposed edges FixedCents (paid once, however many cables use the edge)
+//	+ Σ paid charges           Charge.Cents (once, however many of its edges and cables)
 //	+ Σ added ducts            round(LengthM × AddDuctPerMCents)
 //	+ Σ edges with added ducts round(LengthM × AddTrenchPerMCents) (once per edge)
 //	+ Σ demands                Option.FixedCents (+ Option.SecondLegCents with a diverse pair)
+//
+// A charge (Problem.Charges) is paid when at least one leg of any demand uses at least one
+// of its edges, existing or proposed; on a proposed edge it is paid besides the edge's
+// FixedCents. Each paid charge is split among the demands that use it, as an opened edge's
+// FixedCents is among its users (Breakdown.ChargeShareCents; Solution.Charged lists them).
+// The searches price a charge not yet paid by another demand on each of its edges that a
+// path takes, and one already paid as free; a path that takes two edges of one unpaid charge
+// is thus priced above its cost, which only the plan cost, counting each charge once, decides.
+//
+// A node marked in Problem.NoTransit is never an interior node of a leg: a leg may start or
+// end there, but no search passes through it. A building with several entrances is one such
+// node joined by zero-length edges to its entrances; a diverse pair from it leaves by two of
+// those edges (its legs share no edge), and with one such edge that edge is the single point
+// of failure reported.
 //
 // Solve decides the medium and the route together, keeps every demand within its medium's
 // reach, shares new trench between demands (a fixed-charge network design problem, solved by

@@ -7,7 +7,7 @@ import (
 )
 
 // Fingerprint is the SHA-256 of everything Solve's answer depends on: the problem's nodes,
-// edges, demands and their options, AllowNew, and the settings. Solve is deterministic, so
+// edges, demands and their options, AllowNew, NoTransit, Charges, and the settings. Solve is deterministic, so
 // two calls with the same fingerprint return the same solution; callers that plan many
 // variants of one campus (a sweep) use it to solve each distinct problem once. ok is false
 // when the problem has a custom Fits function, which cannot be fingerprinted.
@@ -56,6 +56,25 @@ func Fingerprint(p *Problem, opt Settings) (sum [sha256.Size]byte, ok bool) {
 			f.float(o.MaxRouteM)
 			f.uint(o.ExcludeFlags)
 			f.float(o.CableODMM)
+		}
+	}
+	// Transit-free nodes and charges, only when present: the bytes of a problem without them
+	// are as before (every field above is self-delimiting, so no problem's bytes are a prefix
+	// of another's).
+	if len(p.NoTransit) > 0 || len(p.Charges) > 0 {
+		f.int(int64(len(p.NoTransit)))
+		for _, v := range p.NoTransit {
+			f.bool(v)
+		}
+		f.int(int64(len(p.Charges)))
+		for i := range p.Charges {
+			c := &p.Charges[i]
+			f.str(c.ID)
+			f.int(c.Cents)
+			f.int(int64(len(c.Edges)))
+			for _, e := range c.Edges {
+				f.int(int64(e))
+			}
 		}
 	}
 	return sha256.Sum256(f.b), true

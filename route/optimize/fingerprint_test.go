@@ -35,7 +35,7 @@ func TestFingerprintCoversEveryField(t *testing.T) {
 	each := func(kind string, v reflect.Value, apply func(q *Problem) reflect.Value) {
 		for i := 0; i < v.NumField(); i++ {
 			name := v.Type().Field(i).Name
-			if kind == "Problem" && (name == "Fits" || name == "Edges" || name == "Demands") {
+			if kind == "Problem" && (name == "Fits" || name == "Edges" || name == "Demands" || name == "NoTransit" || name == "Charges") {
 				continue // Fits: no fingerprint at all (below); slices: their elements are checked
 			}
 			if kind == "Demand" && name == "Options" {
@@ -54,6 +54,30 @@ func TestFingerprintCoversEveryField(t *testing.T) {
 	for i := 0; i < st.NumField(); i++ {
 		changed("Settings."+st.Field(i).Name, func(_ *Problem, s *Settings) { bump(reflect.ValueOf(s).Elem().Field(i)) })
 	}
+	changed("Problem.NoTransit", func(q *Problem, _ *Settings) { q.NoTransit = make([]bool, q.Nodes) })
+	changed("a NoTransit mark", func(q *Problem, _ *Settings) {
+		q.NoTransit = make([]bool, q.Nodes)
+		q.NoTransit[1] = true
+	})
+	charged := func(q *Problem) { q.Charges = []Charge{{ID: "h", Edges: []int{0, 1}, Cents: 5}} }
+	p0 := clone(p)
+	charged(p0)
+	withCharge, _ := Fingerprint(p0, Settings{})
+	if withCharge == base {
+		t.Error("adding a charge left the fingerprint as it was")
+	}
+	ct := reflect.TypeOf(Charge{})
+	for i := 0; i < ct.NumField(); i++ {
+		q := clone(p0)
+		if f := reflect.ValueOf(&q.Charges[0]).Elem().Field(i); f.Kind() == reflect.Slice {
+			q.Charges[0].Edges = []int{0, 2} // Charge.Edges
+		} else {
+			bump(f)
+		}
+		if got, _ := Fingerprint(q, Settings{}); got == withCharge {
+			t.Errorf("changing Charge.%s left the fingerprint as it was", ct.Field(i).Name)
+		}
+	}
 	changed("the number of edges", func(q *Problem, _ *Settings) { q.Edges = q.Edges[:len(q.Edges)-1] })
 	changed("the number of options", func(q *Problem, _ *Settings) {
 		q.Demands[0].Options = append(q.Demands[0].Options, q.Demands[0].Options[0])
@@ -71,6 +95,11 @@ func clone(p *Problem) *Problem {
 	q := *p
 	q.Edges = append([]Edge(nil), p.Edges...)
 	q.Demands = append([]Demand(nil), p.Demands...)
+	q.NoTransit = append([]bool(nil), p.NoTransit...)
+	q.Charges = append([]Charge(nil), p.Charges...)
+	for i := range q.Charges {
+		q.Charges[i].Edges = append([]int(nil), p.Charges[i].Edges...)
+	}
 	for i := range q.Demands {
 		q.Demands[i].Options = append([]Option(nil), p.Demands[i].Options...)
 	}

@@ -22,6 +22,13 @@ import (
 // variable y_e. Arc variables are binary for reach-limited demands; for the others they may be
 // continuous, since with y fixed each such demand is a shortest-path LP, whose optimum is a
 // path. The returned constant is Σ option FixedCents, which the LP objective leaves out.
+//
+// Charges: a binary z_k per charge with its Cents in the objective, and x_{d,e} ≤ z_k for
+// every edge e of charge k (the charge is paid when any of its edges carries a route).
+// Transit-free nodes: for each demand, no flow enters a transit-free node other than its
+// ends (conservation then keeps flow from leaving it too). With y and z fixed each demand is
+// still a shortest-path LP (a transit-free node is a node removed), so continuous arcs stay
+// exact.
 func writeMIP(p *Problem) (lp string, constant int64) {
 	var b strings.Builder
 	var bin []string
@@ -45,6 +52,14 @@ func writeMIP(p *Problem) (lp string, constant int64) {
 			bin = append(bin, fmt.Sprintf("y_%d", e))
 		}
 	}
+	chargesOf := make([][]int, len(p.Edges))
+	for k, c := range p.Charges {
+		term(c.Cents, fmt.Sprintf("z_%d", k))
+		bin = append(bin, fmt.Sprintf("z_%d", k))
+		for _, e := range c.Edges {
+			chargesOf[e] = append(chargesOf[e], k)
+		}
+	}
 	b.WriteString("\nSubject To\n")
 	for d, dm := range p.Demands {
 		o := dm.Options[0]
@@ -53,6 +68,7 @@ func writeMIP(p *Problem) (lp string, constant int64) {
 			return ed.Flags&o.ExcludeFlags == 0 && (!ed.Proposed || p.AllowNew)
 		}
 		rows := make([][]string, p.Nodes)
+		in := make([][]string, len(p.NoTransit)) // arcs into each node, with transit-free nodes
 		for e, ed := range p.Edges {
 			if !use(e) {
 				continue
@@ -62,6 +78,18 @@ func writeMIP(p *Problem) (lp string, constant int64) {
 			rows[ed.To] = append(rows[ed.To], "- "+f, "+ "+bk)
 			if ed.Proposed {
 				fmt.Fprintf(&b, " l_%d_%d: %s + %s - y_%d <= 0\n", d, e, f, bk, e)
+			}
+			for _, k := range chargesOf[e] {
+				fmt.Fprintf(&b, " c_%d_%d_%d: %s + %s - z_%d <= 0\n", d, e, k, f, bk, k)
+			}
+			if len(p.NoTransit) > 0 {
+				in[ed.To] = append(in[ed.To], "+ "+f)
+				in[ed.From] = append(in[ed.From], "+ "+bk)
+			}
+		}
+		for v, terms := range in {
+			if len(terms) > 0 && p.NoTransit[v] && v != dm.Source && v != dm.Target {
+				fmt.Fprintf(&b, " x_%d_%d: %s = 0\n", d, v, strings.Join(terms, " "))
 			}
 		}
 		for v := 0; v < p.Nodes; v++ {
@@ -148,15 +176,24 @@ func TestGLPK(t *testing.T) {
 	cases := []struct {
 		name string
 		spec campusSpec
+		// turns is the number of junctions split into turn nodes with a pull-box charge;
+		// with turns >= 0, buildings are transit-free and handholes are charges too (see
+		// withTransitCharges). -1: the campus as built.
+		turns int
 	}{
-		{"24 buildings", campusSpec{buildings: 24, seed: 11, options: 1, proposedPct: 12, trenchScale: 0.1}},
-		{"32 buildings", campusSpec{buildings: 32, seed: 12, options: 1, proposedPct: 12, trenchScale: 0.15}},
-		{"40 buildings", campusSpec{buildings: 40, seed: 13, options: 1, proposedPct: 10, trenchScale: 0.1}},
+		{"24 buildings", campusSpec{buildings: 24, seed: 11, options: 1, proposedPct: 12, trenchScale: 0.1}, -1},
+		{"32 buildings", campusSpec{buildings: 32, seed: 12, options: 1, proposedPct: 12, trenchScale: 0.15}, -1},
+		{"40 buildings", campusSpec{buildings: 40, seed: 13, options: 1, proposedPct: 10, trenchScale: 0.1}, -1},
+		{"24 buildings, charges", campusSpec{buildings: 24, seed: 11, options: 1, proposedPct: 12, trenchScale: 0.1}, 3},
+		{"32 buildings, charges", campusSpec{buildings: 32, seed: 12, options: 1, proposedPct: 12, trenchScale: 0.15}, 4},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
 			t.Parallel()
 			p := campus(tc.spec)
+			if tc.turns >= 0 {
+				p = withTransitCharges(p, tc.turns)
+			}
 			sol, err := Solve(p, Settings{})
 			if err != nil {
 				t.Fatal(err)
@@ -167,8 +204,11 @@ func TestGLPK(t *testing.T) {
 			obj, optimal := runGLPK(t, lp, 40*time.Second)
 			mip := int64(math.Round(obj)) + constant
 			gap := 100 * float64(sol.TotalCents-mip) / float64(mip)
-			t.Logf("%s: %d demands, %d edges (%d opened by Solve): Solve %d cents, GLPK %d cents (optimal %v, %.1f s), gap %.3f %%",
-				tc.name, len(p.Demands), len(p.Edges), len(sol.Opened), sol.TotalCents, mip, optimal, time.Since(start).Seconds(), gap)
+			t.Logf("%s: %d demands, %d edges (%d opened by Solve), %d charges (%d paid): Solve %d cents, GLPK %d cents (optimal %v, %.1f s), gap %.3f %%",
+				tc.name, len(p.Demands), len(p.Edges), len(sol.Opened), len(p.Charges), len(sol.Charged), sol.TotalCents, mip, optimal, time.Since(start).Seconds(), gap)
+			if tc.turns >= 0 && len(sol.Charged) == 0 {
+				t.Errorf("%s: no charge paid: the case does not exercise charges", tc.name)
+			}
 			if !optimal {
 				t.Fatalf("%s: glpsol did not prove optimality within the time limit", tc.name)
 			}
@@ -180,4 +220,70 @@ func TestGLPK(t *testing.T) {
 			}
 		})
 	}
+}
+
+// withTransitCharges makes a campus (see campus) the way the route layer will draw one:
+// every building node transit-free (routes may not run in by one lateral and out by the
+// other); a handhole charge (600.00) at every node where proposed trenches meet existing duct,
+// over those trenches; and turns junctions of three or more spans (not the cross-connects),
+// taken in node order, split into one node per span joined by zero-length turn edges in one
+// pull-box charge (450.00). Prices are invented.
+func withTransitCharges(p *Problem, turns int) *Problem {
+	q := clone(p)
+	q.NoTransit = make([]bool, q.Nodes)
+	ends := make([]bool, q.Nodes)
+	for _, d := range q.Demands {
+		q.NoTransit[d.Source] = true
+		ends[d.Target] = true
+	}
+	incident := func(v int) (prop, exist []int) { return incidentEdges(q, v) }
+	for v := 0; v < q.Nodes; v++ {
+		if prop, exist := incident(v); len(prop) > 0 && len(exist) > 0 {
+			q.Charges = append(q.Charges, Charge{ID: fmt.Sprintf("handhole %d", v), Edges: prop, Cents: 60000})
+		}
+	}
+	nodes := q.Nodes
+	for v := 0; v < nodes && turns > 0; v++ {
+		prop, exist := incident(v)
+		spans := append(exist, prop...)
+		if ends[v] || q.NoTransit[v] || len(spans) < 3 {
+			continue
+		}
+		turns--
+		ids := []int{v}
+		for _, e := range spans[1:] {
+			w := q.Nodes
+			q.Nodes++
+			q.NoTransit = append(q.NoTransit, false)
+			if q.Edges[e].From == v {
+				q.Edges[e].From = w
+			} else {
+				q.Edges[e].To = w
+			}
+			ids = append(ids, w)
+		}
+		c := Charge{ID: fmt.Sprintf("pull box %d", v), Cents: 45000}
+		for i := range ids {
+			for j := i + 1; j < len(ids); j++ {
+				c.Edges = append(c.Edges, len(q.Edges))
+				q.Edges = append(q.Edges, Edge{ID: fmt.Sprintf("turn %d-%d", ids[i], ids[j]), From: ids[i], To: ids[j]})
+			}
+		}
+		q.Charges = append(q.Charges, c)
+	}
+	return q
+}
+
+// incidentEdges returns the proposed and the existing edges that meet node v, in edge order.
+func incidentEdges(p *Problem, v int) (prop, exist []int) {
+	for e, ed := range p.Edges {
+		if ed.From == v || ed.To == v {
+			if ed.Proposed {
+				prop = append(prop, e)
+			} else {
+				exist = append(exist, e)
+			}
+		}
+	}
+	return prop, exist
 }

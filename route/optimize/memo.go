@@ -13,7 +13,10 @@ import "slices"
 // settles every node whose weight plus lower bound is below the route it returns, and the
 // lower-bound trees stay valid while no edge opens). So best(d) would find nothing cheaper
 // than staying, and the reroute would change nothing. Comparing prices, not counting
-// changes, lets moves that were tried and reverted leave the memos intact.
+// changes, lets moves that were tried and reverted leave the memos intact. With charges, the
+// memo also needs the same charges paid (with d in the plan) and, among the charges d's
+// route uses, the same ones used by other demands too: then every charge costs d's searches
+// what it cost them.
 //
 // Memos serve the cost objective with the default duct rule only: the length objective
 // chooses the medium on cents after routing on metres, which the argument above does not
@@ -25,6 +28,8 @@ type rerouteMemo struct {
 	epoch    uint64
 	freeHash uint64  // solver.freeHash when recorded
 	sig      uint64  // the choice's signature (state.sig)
+	charges  uint64  // solver.chargeHash when recorded
+	chSig    uint64  // ownCharges' hash of the shared charges of the choice then
 	stay     int64   // the weight of staying then
 	edges    []int32 // edges whose weights the searches read
 	levels   []uint8 // priceLevel of each then
@@ -119,6 +124,10 @@ func (sv *solver) startRecord() {
 func (sv *solver) remember(d int, sig uint64, stay int64) {
 	m := &sv.memos[d]
 	m.ok, m.epoch, m.freeHash, m.sig, m.stay = true, sv.epoch, sv.freeHash, sig, stay
+	if sv.chOn {
+		_, m.chSig = sv.ownCharges(sv.st.ch[d])
+		m.charges = sv.chargeHash
+	}
 	m.edges = append(m.edges[:0], sv.qList...)
 	m.levels = m.levels[:0]
 	for _, e := range sv.qList {
@@ -151,6 +160,10 @@ func (sv *solver) stayWeight(d int, c choice) (int64, bool) {
 			}
 		}
 	}
+	if sv.chOn {
+		own, _ := sv.ownCharges(c)
+		w += own
+	}
 	return w, true
 }
 
@@ -159,6 +172,13 @@ func (sv *solver) memoHolds(d int) bool {
 	m := &sv.memos[d]
 	if !m.ok || m.epoch != sv.epoch || m.freeHash != sv.freeHash || m.sig != sv.st.sig[d] {
 		return false
+	}
+	if sv.chOn {
+		// The same charges paid by the others: with d in the plan (chargeHash) and, among
+		// those d's route uses, by demands other than d (chSig).
+		if _, sig := sv.ownCharges(sv.st.ch[d]); m.charges != sv.chargeHash || sig != m.chSig {
+			return false
+		}
 	}
 	if w, ok := sv.stayWeight(d, sv.st.ch[d]); !ok || w > m.stay {
 		return false

@@ -15,6 +15,9 @@ func (sv *solver) reroute(d int) bool {
 	before := sv.key()
 	memo := sv.memoUsable() && sv.st.ch[d].opt >= 0
 	if memo && sv.memoHolds(d) {
+		if sv.memoAudit {
+			sv.auditMemo(d, before)
+		}
 		return false
 	}
 	var stay int64
@@ -46,6 +49,22 @@ func (sv *solver) reroute(d int) bool {
 	sv.add(d, old)
 	sv.flush()
 	return false
+}
+
+// auditMemo reroutes demand d although its memo holds, counts in memoWrong a reroute that
+// would have improved the plan (the memo was wrong to skip it), and puts d back.
+func (sv *solver) auditMemo(d int, before key) {
+	sig := sv.st.sig[d]
+	old, nb := sv.rebest(d)
+	if choiceSig(nb) != sig {
+		sv.add(d, nb)
+		if sv.key().less(before) {
+			sv.memoWrong++
+		}
+		sv.remove(d)
+	}
+	sv.add(d, old)
+	sv.flush()
 }
 
 // rebest takes demand d out of the plan and returns its old choice and its best choice
@@ -91,49 +110,106 @@ func (sv *solver) keepOrRevert(ds []int32, olds []choice, before key) bool {
 }
 
 // closeMoves tries closing each opened proposed edge. A move is abandoned as soon as the
-// users rerouted so far cost more than the edge's FixedCents saves (the remaining users would
-// have to get cheaper than before, which rerouting around a closed edge does not do), and a
-// move that failed is not tried again until one of the edge's users changes route.
+// users rerouted so far cost more than the edge's FixedCents (and its charges) save (the
+// remaining users would have to get cheaper than before, which rerouting around a closed edge
+// does not do), and a move that failed is not tried again until one of the edge's users
+// changes route.
 func (sv *solver) closeMoves() bool {
 	changed := false
 	for _, e := range sv.proposed {
 		if sv.stopped() {
 			break
 		}
-		st := sv.st
-		if st.count[e] == 0 {
+		if sv.st.count[e] == 0 {
 			continue
 		}
-		users := slices.Clone(st.users[e])
-		sig := mix(uint64(e), 7)
-		for _, d := range users {
-			sig = mix(sig, st.sig[d])
-		}
-		if f, ok := sv.failedClose[e]; ok && f == sig {
-			continue
-		}
-		before := sv.key()
-		sv.forbid[e] = true
-		olds := make([]choice, 0, len(users))
-		var done []int32
-		for _, d := range users {
-			old, nb := sv.rebest(int(d))
-			olds = append(olds, old)
-			sv.add(int(d), nb)
-			done = append(done, d)
-			if k := sv.key(); k.overfull == before.overfull && k.unrouted == before.unrouted &&
-				k.unmet == before.unmet && st.count[e] > 0 && k.total-before.total > sv.fixedE[e] {
-				break
+		save := sv.fixedE[e]
+		if sv.chOn {
+			for _, k := range sv.chargesOf(int(e)) {
+				save += sv.p.Charges[k].Cents
 			}
 		}
-		sv.forbid[e] = false
-		if sv.keepOrRevert(done, olds, before) {
+		if sv.closeSet(e, []int32{e}, slices.Clone(sv.st.users[e]), save) {
 			changed = true
-		} else {
-			sv.failedClose[e] = sig
 		}
 	}
 	return changed
+}
+
+// chargeMoves tries, for each paid charge, forbidding all its edges and rerouting the demands
+// that use them (a reroute alone never drops a charge that two demands share), the way
+// closeMoves closes an edge.
+func (sv *solver) chargeMoves() bool {
+	changed := false
+	for k := range sv.p.Charges {
+		if sv.stopped() {
+			break
+		}
+		ch := &sv.p.Charges[k]
+		if sv.st.chUse[k] == 0 || ch.Cents == 0 {
+			continue
+		}
+		var users []int32
+		edges := make([]int32, 0, len(ch.Edges))
+		for _, e := range ch.Edges {
+			users = append(users, sv.st.users[e]...)
+			edges = append(edges, int32(e))
+		}
+		slices.Sort(users)
+		users = slices.Compact(users)
+		if sv.closeSet(int32(-1-k), edges, users, ch.Cents) {
+			changed = true
+		}
+	}
+	return changed
+}
+
+// closeSet forbids edges, reroutes users and keeps the plan if it is cheaper. id names the
+// move in failedClose (an edge index, or -1-charge); save is what the move may save at most
+// besides the users' own costs, for abandoning it early.
+func (sv *solver) closeSet(id int32, edges, users []int32, save int64) bool {
+	st := sv.st
+	sig := mix(uint64(id), 7)
+	for _, d := range users {
+		sig = mix(sig, st.sig[d])
+	}
+	if f, ok := sv.failedClose[id]; ok && f == sig {
+		return false
+	}
+	before := sv.key()
+	for _, e := range edges {
+		sv.forbid[e] = true
+	}
+	olds := make([]choice, 0, len(users))
+	var done []int32
+	for _, d := range users {
+		old, nb := sv.rebest(int(d))
+		olds = append(olds, old)
+		sv.add(int(d), nb)
+		done = append(done, d)
+		if k := sv.key(); k.overfull == before.overfull && k.unrouted == before.unrouted &&
+			k.unmet == before.unmet && sv.inUse(edges) && k.total-before.total > save {
+			break
+		}
+	}
+	for _, e := range edges {
+		sv.forbid[e] = false
+	}
+	if sv.keepOrRevert(done, olds, before) {
+		return true
+	}
+	sv.failedClose[id] = sig
+	return false
+}
+
+// inUse reports whether any of edges carries a route.
+func (sv *solver) inUse(edges []int32) bool {
+	for _, e := range edges {
+		if sv.st.count[e] > 0 {
+			return true
+		}
+	}
+	return false
 }
 
 type openCand struct {
@@ -272,6 +348,10 @@ func (sv *solver) saveBound(d int, open []int32) int64 {
 				}
 			}
 		}
+		if sv.chOn {
+			own, _ := sv.ownCharges(c)
+			cur += own
+		}
 		sv.sbCur[d] = cur
 		for o := range dm.Options {
 			sv.sbTree[off+o] = sv.bound(sv.to[d], sv.optProf[d][o]).t
@@ -327,6 +407,15 @@ func (sv *solver) estimate(d int) int64 {
 	for _, leg := range c.legs {
 		for _, h := range leg {
 			sv.self[h.Edge] = sv.selfSt
+		}
+	}
+	if sv.chOn {
+		if sv.selfSt == 1 {
+			clear(sv.chSelfSt)
+		}
+		sv.scanCharges(c)
+		for _, k := range sv.chTouch {
+			sv.chSelf[k], sv.chSelfSt[k] = sv.chCnt[k], sv.selfSt
 		}
 	}
 	sv.markOwn(d, c)
@@ -530,6 +619,9 @@ func (sv *solver) improve() int {
 				changed = true
 			}
 		}
+		if sv.chOn && !sv.stopped() && sv.chargeMoves() {
+			changed = true
+		}
 		if !changed || sv.optima[sv.st.planH] {
 			break // a local optimum, or one the perturbation phase has reached before (kicks)
 		}
@@ -537,19 +629,22 @@ func (sv *solver) improve() int {
 	return rounds
 }
 
-// start routes every demand in order; with open, every proposed edge is free in this pass.
+// start routes every demand in order; with open, every proposed edge and every charge is free
+// in this pass.
 func (sv *solver) start(open bool) {
 	sv.st = newState(sv)
 	sv.recount()
 	for _, e := range sv.proposed {
 		sv.setPhantom(e, open)
 	}
+	sv.chFree = open
 	for d := range sv.p.Demands {
 		if sv.stopped() {
 			break
 		}
 		sv.place(d)
 	}
+	sv.chFree = false
 	for _, e := range sv.proposed {
 		sv.setPhantom(e, false)
 	}
@@ -590,10 +685,14 @@ func (sv *solver) place(d int) {
 func (sv *solver) run() {
 	sv.start(false)
 	sv.rounds = sv.improve()
-	if sv.length || len(sv.proposed) == 0 || sv.stopped() {
+	fixed := len(sv.proposed) // proposed edges and, priced, charges: what a start may open
+	if sv.chOn {
+		fixed += len(sv.p.Charges)
+	}
+	if sv.length || fixed == 0 || sv.stopped() {
 		return
 	}
-	if len(sv.p.Demands)*len(sv.proposed) > maxSecondStart {
+	if len(sv.p.Demands)*fixed > maxSecondStart {
 		return
 	}
 	sv.flush()
@@ -612,7 +711,7 @@ func (sv *solver) run() {
 	} else {
 		sv.dropState(first)
 	}
-	if len(sv.p.Demands)*len(sv.proposed) <= maxKickWork {
+	if len(sv.proposed) > 0 && len(sv.p.Demands)*len(sv.proposed) <= maxKickWork {
 		sv.kicks()
 	}
 }

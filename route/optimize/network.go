@@ -35,6 +35,14 @@ type Network struct {
 	start []int32 // adjacency of node v is adj[start[v]:start[v+1]]
 	adj   []arc
 	lenMM []int64 // edge lengths in whole millimetres
+	// noTransit marks the nodes the optimizer's searches never pass through (Problem.NoTransit;
+	// nil when none). Graph and View ignore it: they are the plain pathway graph.
+	noTransit []bool
+}
+
+// transit reports whether a search rooted at root may go on from node v.
+func (n *Network) transit(v int32, root int) bool {
+	return n.noTransit == nil || !n.noTransit[v] || int(v) == root
 }
 
 // arc is one direction of an edge in the flat adjacency.

@@ -52,16 +52,7 @@ func (sv *solver) solution() *Solution {
 		users := st.users[e]
 		if p.Edges[e].Proposed && len(users) > 0 {
 			sol.Opened = append(sol.Opened, e)
-			f := p.Edges[e].FixedCents
-			n := int64(len(users))
-			share := f / n
-			for i, u := range users {
-				c := share
-				if i == 0 {
-					c += f - share*n
-				}
-				sol.Routes[u].Cost.ConstructionShareCents += c
-			}
+			splitCents(p.Edges[e].FixedCents, users, func(u int32) *int64 { return &sol.Routes[u].Cost.ConstructionShareCents })
 		}
 		if st.count[e] == 0 {
 			continue
@@ -86,10 +77,54 @@ func (sv *solver) solution() *Solution {
 		}
 		sol.Fill = append(sol.Fill, fill)
 	}
+	sv.chargeShares(sol)
 	for d := range sol.Routes {
 		sol.TotalCents += sol.Routes[d].Cost.Total()
 	}
 	return sol
+}
+
+// chargeShares lists the charges the plan pays and splits each among the demands that use
+// any of its edges: equal shares, the remainder cents to the first user in demand order.
+func (sv *solver) chargeShares(sol *Solution) {
+	p := sv.p
+	if len(p.Charges) == 0 {
+		return
+	}
+	users := make([][]int32, len(p.Charges))
+	for d := range sol.Routes {
+		c := sv.st.ch[d]
+		for _, leg := range c.legs {
+			for _, h := range leg {
+				for _, k := range sv.chargesOf(h.Edge) {
+					if u := users[k]; len(u) == 0 || u[len(u)-1] != int32(d) {
+						users[k] = append(u, int32(d))
+					}
+				}
+			}
+		}
+	}
+	for k, us := range users {
+		if len(us) == 0 {
+			continue
+		}
+		sol.Charged = append(sol.Charged, k)
+		splitCents(p.Charges[k].Cents, us, func(u int32) *int64 { return &sol.Routes[u].Cost.ChargeShareCents })
+	}
+}
+
+// splitCents adds f cents to the users' shares (demands, ascending): equal parts, the
+// remainder cents to the first.
+func splitCents(f int64, users []int32, share func(u int32) *int64) {
+	n := int64(len(users))
+	part := f / n
+	for i, u := range users {
+		c := part
+		if i == 0 {
+			c += f - part*n
+		}
+		*share(u) += c
+	}
 }
 
 // legLess orders the legs of a pair: cheaper first, then shorter, then by first edge.
@@ -141,6 +176,8 @@ func (sv *solver) reason(d int) (string, []OptionFailure) {
 		}
 		lt := sv.lenTree(t, excl)
 		f := OptionFailure{Option: o, Name: op.Name}
+		// Joined only through a node that routes may not pass (Problem.NoTransit).
+		const via = " without passing through a transit-free node"
 		switch {
 		case comp[s] != comp[t] && excl != 0:
 			f.Kind, f.ExcludeFlags = FailNoPathFlags, excl
@@ -148,6 +185,12 @@ func (sv *solver) reason(d int) (string, []OptionFailure) {
 		case comp[s] != comp[t]:
 			f.Kind = FailNoPath
 			msgs = append(msgs, fmt.Sprintf("%s: no pathway joins its two ends", name))
+		case lt.dist[s] < 0 && excl != 0:
+			f.Kind, f.ExcludeFlags = FailNoPathFlags, excl
+			msgs = append(msgs, fmt.Sprintf("%s: no pathway joins its two ends on the edges this option may use (it excludes edges flagged %#x)%s", name, excl, via))
+		case lt.dist[s] < 0:
+			f.Kind = FailNoPath
+			msgs = append(msgs, fmt.Sprintf("%s: no pathway joins its two ends%s", name, via))
 		case lt.dist[s] > sv.reach[d][o]:
 			f.Kind, f.ShortestM, f.ReachM = FailReach, float64(lt.dist[s])/mmPerM, op.MaxRouteM
 			msgs = append(msgs, fmt.Sprintf("%s: shortest route %.3f m exceeds reach %.3f m", name, f.ShortestM, op.MaxRouteM))

@@ -123,6 +123,27 @@ type Problem struct {
 
 	// Fits decides duct fill on capacity-limited edges; nil means NFPAFits.
 	Fits FitsFunc
+
+	// NoTransit marks the nodes that a route may start or end at but never pass through
+	// (NoTransit[v] true: v is never an interior node of any leg). Nil, or one entry per node.
+	// A building with several entrances is one such node joined by zero-length edges to each
+	// entrance: marking it stops routes running in at one entrance and out at another.
+	NoTransit []bool
+
+	// Charges are prices paid once for a set of edges; see Charge.
+	Charges []Charge
+}
+
+// Charge is an amount paid once when any of its edges carries at least one route: a
+// structure that serves several edges (a handhole where new pathway joins the network, paid
+// once whatever number of opened spans meet there; a pull box where a route turns from one
+// pathway into another at a junction modelled as one node per pathway, joined by turn edges
+// that all belong to one charge). Its edges may be existing or proposed; on a proposed edge
+// it is paid besides the edge's own FixedCents. An edge may belong to several charges.
+type Charge struct {
+	ID    string
+	Edges []int // indices into Problem.Edges, distinct, at least one
+	Cents int64 // paid once when any edge of the set carries a route, in cents
 }
 
 // Objective names for Settings.Objective.
@@ -237,6 +258,33 @@ func validate(p *Problem, s Settings) error {
 		}
 		if e.Group < 0 {
 			bad("%s: group: want >= 0, got %d", name, e.Group)
+		}
+	}
+	if len(p.NoTransit) != 0 && len(p.NoTransit) != p.Nodes {
+		bad("no-transit marks: want none or one per node (%d), got %d", p.Nodes, len(p.NoTransit))
+	}
+	var seen []int // edge → 1 + the last charge that listed it
+	if len(p.Charges) > 0 {
+		seen = make([]int, len(p.Edges))
+	}
+	for i := range p.Charges {
+		c := &p.Charges[i]
+		name := ref{"charge", i, c.ID}
+		if len(c.Edges) == 0 {
+			bad("%s: edges: want at least one edge", name)
+		}
+		for _, e := range c.Edges {
+			switch {
+			case e < 0 || e >= len(p.Edges):
+				bad("%s: edges: want edge indices in [0, %d), got %d", name, len(p.Edges), e)
+			case seen[e] == i+1:
+				bad("%s: edges: edge %d listed twice", name, e)
+			default:
+				seen[e] = i + 1
+			}
+		}
+		if c.Cents < 0 || c.Cents > maxFixedCents {
+			bad("%s: cents: want cents in [0, %d], got %d", name, int64(maxFixedCents), c.Cents)
 		}
 	}
 	return errs.Err()

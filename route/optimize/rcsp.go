@@ -124,13 +124,16 @@ func labelSearch(net *Network, sc *rcspScratch, s, t int, limitMM int64, w func(
 		if int(u) == t {
 			return labelPath(net, sc.labels, li), true, false
 		}
+		if !net.transit(u, s) {
+			continue
+		}
 		if len(sc.labels) > maxLabels {
 			return nil, false, true
 		}
 		for _, a := range net.adj[net.start[u]:net.start[u+1]] {
 			v := a.to
-			if hCost[v] < 0 {
-				continue
+			if hCost[v] < 0 || (int(v) != t && !net.transit(v, s)) {
+				continue // cannot reach t, or a dead end (a transit-free node)
 			}
 			c, okw := w(a.edge)
 			if !okw {

@@ -41,7 +41,7 @@ func randomRCSP(r *rand.Rand, parallel bool) rcspCase {
 // exactRCSP enumerates all simple paths for the cheapest one within limitMM (or -1).
 func exactRCSP(c rcspCase, s, t int, limitMM int64) int64 {
 	best := int64(-1)
-	for _, p := range simplePaths(c.n, c.edges, s, t) {
+	for _, p := range simplePaths(c.n, c.edges, s, t, nil) {
 		var cost, l int64
 		for _, e := range p {
 			cost += c.cost[e]

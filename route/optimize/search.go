@@ -158,6 +158,9 @@ func (s *search[W]) run(root, goal int, w func(e int32) (W, bool), h heuristic[W
 		if int(u) == goal {
 			return true
 		}
+		if !net.transit(u, root) {
+			continue // a transit-free node ends the paths that reach it
+		}
 		du, lu := s.dist[u], s.lenMM[u]
 		for _, a := range net.adj[net.start[u]:net.start[u+1]] {
 			v := a.to
@@ -174,6 +177,11 @@ func (s *search[W]) run(root, goal int, w func(e int32) (W, bool), h heuristic[W
 			}
 			k := nd
 			if h != nil {
+				if int(v) != goal && !net.transit(v, root) {
+					// A dead end (a transit-free node), where the bound need not be
+					// consistent: skipped, so keys leave the heap in order.
+					continue
+				}
 				hv, ok := h(v)
 				if !ok {
 					continue

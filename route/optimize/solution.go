@@ -46,11 +46,16 @@ type Breakdown struct {
 	// (charged to the demand whose cable, pulled in demand order, first needed the duct).
 	AddedDuctCents int64
 	FixedCents     int64 // the option's FixedCents, and its SecondLegCents with a diverse pair
+	// ChargeShareCents is the demand's share of the charges (Problem.Charges) its legs use:
+	// each paid charge's Cents split equally among the demands that use any of its edges, the
+	// remainder cents to the first of them in the order of Problem.Demands, as for
+	// ConstructionShareCents.
+	ChargeShareCents int64
 }
 
 // Total returns the sum of the parts, in cents.
 func (b Breakdown) Total() int64 {
-	return b.CableCents + b.LabourCents + b.ConstructionShareCents + b.AddedDuctCents + b.FixedCents
+	return b.CableCents + b.LabourCents + b.ConstructionShareCents + b.AddedDuctCents + b.FixedCents + b.ChargeShareCents
 }
 
 // Point kinds of a SinglePoint.
@@ -139,6 +144,7 @@ type Solution struct {
 	Routes     []Route      // one per demand, in demand order
 	Infeasible []Infeasible // in demand order
 	Opened     []int        // proposed edges the plan opens, ascending
+	Charged    []int        // charges (indices into Problem.Charges) whose edges carry a route, ascending
 	Fill       []EdgeFill   // edges that carry cables, ascending by edge index
 	TotalCents int64        // Σ Routes[i].Cost.Total()
 	TotalM     float64      // Σ route metres over all legs

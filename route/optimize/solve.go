@@ -20,7 +20,8 @@ import (
 //     planTreeNodes or more, plan trees (bound.go) also charge the edges not yet opened, and
 //     serve instead while they stay valid.
 //  2. A starting plan: demands routed one by one in demand order with each unopened proposed
-//     edge charged its full FixedCents (edges opened by earlier demands are free). Each demand
+//     edge charged its full FixedCents and each unpaid charge its Cents (edges opened and
+//     charges paid by earlier demands are free). Each demand
 //     takes the option whose route (within reach: LARAC and an exact label search, see
 //     rcsp.go) plus option cost is cheapest; diverse demands take a diverse pair (disjoint.go,
 //     pair.go).
@@ -28,15 +29,20 @@ import (
 //     each demand against the others' plan (an edge only it uses costs its full FixedCents, so
 //     leaving it saves that); close an opened edge (forbid it, reroute its users, keep if
 //     cheaper); open a run of proposed edges that some demand's unconstrained cheapest route
-//     uses (treat it as free, reroute the demands it may help, keep if cheaper). Open moves are
+//     uses (treat it as free, reroute the demands it may help, keep if cheaper); drop a paid
+//     charge (forbid its edges, reroute its users, keep if cheaper). Open moves are
 //     screened first by bounds and by an in-place estimate, and a failed move is not retried
 //     until a demand it involves changes route. A reroute is skipped when its memo shows that
 //     no edge its last searches read has become cheaper (memo.go): it would change nothing.
-//  4. On problems with demands × proposed edges up to maxSecondStart, a second start routes the
-//     first pass with every proposed edge free and is searched the same way; the cheaper plan
-//     is kept. Up to maxKickWork, an iterated local search then perturbs the optimum (open a
-//     run that could pay for itself, or forbid an opened edge), moves the demands concerned
-//     and descends again, keeping improvements and stopping at optima already seen.
+//  4. On problems with demands × (proposed edges + charges) up to maxSecondStart, a second
+//     start routes the first pass with every proposed edge and charge free and is searched the
+//     same way; the cheaper plan is kept. Up to maxKickWork (demands × proposed edges), an
+//     iterated local search then perturbs the optimum (open a run that could pay for itself,
+//     or forbid an opened edge), moves the demands concerned and descends again, keeping
+//     improvements and stopping at optima already seen.
+//
+// Transit-free nodes (Problem.NoTransit) end every search path that reaches them, except at
+// the search's own root and goal.
 //
 // Every move is kept only when the exact plan cost — compared lexicographically after the number
 // of capacity violations, unrouted demands and diverse demands without a pair, then by total
@@ -168,8 +174,28 @@ type solver struct {
 	qStamp uint32
 	qList  []int32
 	qLevel []uint8 // per edge: priceLevel when a memo search read it
-	ord    []int32 // openMoves' estimate order
-	plainW int64   // weight of the last pair found too long for its reach
+	// For the test of the memos: memoAudit reroutes every demand whose memo holds
+	// (auditMemo) and counts in memoWrong the reroutes that would have improved the plan.
+	memoAudit bool
+	memoWrong int
+	ord       []int32 // openMoves' estimate order
+	plainW    int64   // weight of the last pair found too long for its reach
+	// Charges (Problem.Charges): the charges of edge e are chList[chStart[e]:chStart[e+1]]
+	// (nil without charges); chOn says whether the searches and the plan cost price them
+	// (not for the length objective). chargeHash is the set hash of the charges paid.
+	chStart    []int32
+	chList     []int32
+	chOn       bool
+	chFree     bool // every charge is free to the searches (the open start)
+	chargeHash uint64
+	// Per charge: uses by the demand being scanned (chCnt, valid where chMark == chStamp;
+	// see scanCharges) and by the demand estimated in place (chSelf, where chSelfSt == selfSt).
+	chCnt    []int32
+	chMark   []uint32
+	chStamp  uint32
+	chTouch  []int32
+	chSelf   []int32
+	chSelfSt []uint32
 }
 
 func newSolver(p *Problem, opt Settings) *solver {
@@ -191,6 +217,10 @@ func newSolver(p *Problem, opt Settings) *solver {
 		sv.maxRounds = DefaultMaxRounds
 	}
 	sv.rc.stop = sv.stopped
+	if len(p.NoTransit) > 0 {
+		net.noTransit = p.NoTransit
+	}
+	sv.initCharges()
 	sv.keepTrees = min(8, 20000/max(p.Nodes, 1)) // a few MB of trees at most
 	sv.plainBounds = p.Nodes < planTreeNodes
 	for i := range p.Edges {
@@ -286,6 +316,99 @@ func newSolver(p *Problem, opt Settings) *solver {
 	return sv
 }
 
+// initCharges indexes the charges by edge and marks their edges tracked (their users are
+// kept, for the charge moves).
+func (sv *solver) initCharges() {
+	p := sv.p
+	if len(p.Charges) == 0 {
+		return
+	}
+	ne, nc := len(p.Edges), len(p.Charges)
+	sv.chStart = make([]int32, ne+1)
+	for _, c := range p.Charges {
+		for _, e := range c.Edges {
+			sv.chStart[e+1]++
+		}
+	}
+	for e := 0; e < ne; e++ {
+		sv.chStart[e+1] += sv.chStart[e]
+	}
+	sv.chList = make([]int32, sv.chStart[ne])
+	fill := append([]int32(nil), sv.chStart[:ne]...)
+	for c, ch := range p.Charges {
+		for _, e := range ch.Edges {
+			sv.chList[fill[e]] = int32(c)
+			fill[e]++
+		}
+	}
+	sv.chOn = !sv.length
+	if sv.chOn {
+		for _, ch := range p.Charges {
+			for _, e := range ch.Edges {
+				sv.tracked[e] = true
+			}
+		}
+	}
+	sv.chCnt, sv.chMark = make([]int32, nc), make([]uint32, nc)
+	sv.chSelf, sv.chSelfSt = make([]int32, nc), make([]uint32, nc)
+}
+
+// chargesOf returns the charges of edge e.
+func (sv *solver) chargesOf(e int) []int32 { return sv.chList[sv.chStart[e]:sv.chStart[e+1]] }
+
+// scanCharges counts, per charge, the uses of choice c's edges (chCnt, for the charges listed
+// in chTouch, in order of first use).
+func (sv *solver) scanCharges(c choice) {
+	sv.chStamp++
+	if sv.chStamp == 0 {
+		clear(sv.chMark)
+		sv.chStamp = 1
+	}
+	sv.chTouch = sv.chTouch[:0]
+	for _, leg := range c.legs {
+		for _, h := range leg {
+			for _, k := range sv.chargesOf(h.Edge) {
+				if sv.chMark[k] != sv.chStamp {
+					sv.chMark[k], sv.chCnt[k] = sv.chStamp, 0
+					sv.chTouch = append(sv.chTouch, k)
+				}
+				sv.chCnt[k]++
+			}
+		}
+	}
+}
+
+// ownCharges returns what the charges cost demand d's choice c (in the plan) as the searches
+// price it once d is out: each charge only d uses, on every edge of c that belongs to it;
+// and a hash of which charges c touches that other demands use too.
+func (sv *solver) ownCharges(c choice) (cents int64, sig uint64) {
+	sv.scanCharges(c)
+	st := sv.st
+	sig = mix(0, 37)
+	for _, k := range sv.chTouch {
+		if st.chUse[k] == sv.chCnt[k] {
+			cents += int64(sv.chCnt[k]) * sv.p.Charges[k].Cents
+		} else {
+			sig = mix(sig, uint64(k))
+		}
+	}
+	return cents, sig
+}
+
+// chargeCents is what the charges of edge e add to a route's weight now: every charge of e
+// that no other demand pays (an estimate in place, see estimate, does not count the demand's
+// own uses).
+func (sv *solver) chargeCents(e int32) int64 {
+	st := sv.st
+	var b int64
+	for _, k := range sv.chList[sv.chStart[e]:sv.chStart[e+1]] {
+		if u := st.chUse[k]; u == 0 || (sv.chSelfSt[k] == sv.selfSt && u == sv.chSelf[k]) {
+			b += sv.p.Charges[k].Cents
+		}
+	}
+	return b
+}
+
 func (sv *solver) usable(i int, exclude uint64) bool {
 	e := &sv.p.Edges[i]
 	return (!e.Proposed || sv.p.AllowNew) && e.Flags&exclude == 0
@@ -363,8 +486,9 @@ func (sv *solver) lenTreeOf(anchor, c int) *tree {
 }
 
 // weightFor returns demand d's marginal weight for option o against the current state: the
-// profile's base weight, plus FixedCents on an unopened proposed edge, plus the price of any
-// ducts its cable would add. It starts a new penalty memo.
+// profile's base weight, plus FixedCents on an unopened proposed edge, plus the Cents of each
+// of the edge's charges that no other demand pays, plus the price of any ducts its cable
+// would add. It starts a new penalty memo.
 func (sv *solver) weightFor(d, o int) func(e int32) (int64, bool) {
 	sv.penN++
 	if sv.penN == 0 {
@@ -384,6 +508,9 @@ func (sv *solver) weightFor(d, o int) func(e int32) (int64, bool) {
 		}
 		if fx := sv.fixedE[e]; fx > 0 && (st.count[e] == 0 || (st.count[e] == 1 && sv.self[e] == sv.selfSt)) && !sv.phantom[e] {
 			b += fx
+		}
+		if sv.chOn && !sv.chFree && sv.chStart[e] != sv.chStart[e+1] {
+			b += sv.chargeCents(e)
 		}
 		if sv.limited[e] {
 			pen, ok := sv.penalty(d, o, e, area)

@@ -199,6 +199,11 @@ func TestLengthObjective(t *testing.T) {
 // identical solutions.
 func TestDeterminism(t *testing.T) {
 	p := campus(campusSpec{buildings: 150, seed: 3, diverseFrac: 0.1, options: 3, capacity: true, proposedPct: 10})
+	determinism(t, p)
+	determinism(t, withTransitCharges(p, 15))
+}
+
+func determinism(t *testing.T, p *Problem) {
 	solve := func(procs int) *Solution {
 		old := runtime.GOMAXPROCS(procs)
 		defer runtime.GOMAXPROCS(old)
@@ -316,15 +321,19 @@ func TestCampusPlansValid(t *testing.T) {
 	for seed := uint64(1); seed <= 8; seed++ {
 		spec := campusSpec{buildings: 20 + 10*int(seed%3), seed: seed, diverseFrac: 0.3, options: 3, capacity: true, proposedPct: 12, trenchScale: 0.3}
 		p := campus(spec)
-		for _, hook := range []bool{false, true} {
+		for variant := 0; variant < 3; variant++ {
+			hook, drawn := variant == 1, variant == 2
 			q := *p
 			if hook { // at most 12 cables per duct, whatever their size
 				q.Fits = func(edge int, ods []float64, ducts int) bool { return len(ods) <= 12*ducts }
 			}
+			if drawn { // buildings transit-free, handhole and pull-box charges
+				q = *withTransitCharges(p, 3)
+			}
 			sv := newSolver(&q, Settings{})
 			sv.run()
 			sol := sv.solution()
-			name := fmt.Sprintf("seed %d hook %v", seed, hook)
+			name := fmt.Sprintf("seed %d hook %v drawn %v", seed, hook, drawn)
 			verify(t, name, &q, sol)
 			if got := sv.key().total; got != sol.TotalCents {
 				t.Errorf("%s: incremental total %d, breakdowns sum to %d", name, got, sol.TotalCents)
@@ -385,5 +394,23 @@ func TestAnchorAtSource(t *testing.T) {
 	if b.TotalCents != c.TotalCents || len(b.Infeasible) != len(c.Infeasible) {
 		t.Errorf("default rule %d cents (%d infeasible), NFPAFitsFor %d cents (%d infeasible)",
 			b.TotalCents, len(b.Infeasible), c.TotalCents, len(c.Infeasible))
+	}
+}
+
+// TestMemoChangesNothing reroutes, on campuses with and without transit-free nodes and
+// charges, every demand whose reroute memo (memo.go) says the reroute would change nothing,
+// and wants none of those reroutes to improve the plan.
+func TestMemoChangesNothing(t *testing.T) {
+	t.Parallel()
+	for seed := uint64(1); seed <= 4; seed++ {
+		p := campus(campusSpec{buildings: 40, seed: seed, diverseFrac: 0.2, options: 3, capacity: true, proposedPct: 12, trenchScale: 0.3})
+		for _, q := range []*Problem{p, withTransitCharges(p, 4), withTransitCharges(p, 12)} {
+			sv := newSolver(q, Settings{})
+			sv.memoAudit = true
+			sv.run()
+			if sv.memoWrong > 0 {
+				t.Errorf("seed %d, %d charges: %d reroutes skipped by a memo would have improved the plan", seed, len(q.Charges), sv.memoWrong)
+			}
+		}
 	}
 }

@@ -32,6 +32,7 @@ type state struct {
 	appendN  []int32   // per limited edge: cables appended last (in demand order) since the flush, -1 after any other change
 	free     []float64 // per limited edge: largest cable area it takes without a new duct, mm²
 	fits     []uint8   // per limited edge: how many of the options' cable sizes free takes (sizesFitting)
+	chUse    []int32   // per charge: uses of its edges by the plan's legs (with solver.chOn)
 	total    int64     // plan cost in cents (without construction and ducts for the length objective)
 	totalMM  int64
 	overfull int
@@ -72,7 +73,11 @@ func newState(sv *solver) *state {
 			added: make([]int, ne), over: make([]bool, ne), packs: make([]ductPack, ne), sig: make([]uint64, nd),
 			ods: make([][]float64, ne), hsh: make([]uint64, ne), packH: make([]uint64, ne),
 			alt: make([]packState, ne), isDirty: make([]bool, ne), free: make([]float64, ne), appendN: make([]int32, ne), fits: make([]uint8, ne)}
+		if sv.chOn {
+			st.chUse = make([]int32, len(sv.p.Charges))
+		}
 	}
+	clear(st.chUse)
 	clear(st.count)
 	clear(st.added)
 	clear(st.over)
@@ -264,6 +269,14 @@ func (sv *solver) add(d int, c choice) {
 					sv.freeChanged(int32(e), true)
 				}
 			}
+			if sv.chOn {
+				for _, k := range sv.chargesOf(e) {
+					if st.chUse[k]++; st.chUse[k] == 1 {
+						st.total += sv.p.Charges[k].Cents
+						sv.chargeHash ^= mix(uint64(k), 29)
+					}
+				}
+			}
 			if sv.tracked[e] {
 				i, _ := slices.BinarySearch(st.users[e], int32(d))
 				if sv.limited[e] && st.appendN[e] >= 0 {
@@ -300,6 +313,14 @@ func (sv *solver) remove(d int) choice {
 				st.total -= sv.fixedE[e]
 				if sv.fixedE[e] > 0 && !sv.phantom[e] {
 					sv.freeChanged(int32(e), false)
+				}
+			}
+			if sv.chOn {
+				for _, k := range sv.chargesOf(e) {
+					if st.chUse[k]--; st.chUse[k] == 0 {
+						st.total -= sv.p.Charges[k].Cents
+						sv.chargeHash ^= mix(uint64(k), 29)
+					}
 				}
 			}
 			if sv.tracked[e] {
