@@ -31,6 +31,16 @@ type Leg struct {
 	Feasible bool
 	Reason   string // why the leg is infeasible, or notes
 
+	// EntranceTo and EntranceFrom are the entrances (geo.Entry IDs) the leg uses at the
+	// served building (Link.To) and at the cross-connect (Link.From).
+	EntranceTo, EntranceFrom string
+	// Crosses lists, in travel order, the buildings the route passes through (in at one of
+	// their entrances and out at another), which the campus allows (geo.Transit).
+	Crosses []string
+	// Turns lists, in travel order, the junctions where the route turns from one pathway into
+	// another at a handhole or pull box the plan adds (geo.PassNeedsStructure).
+	Turns []string
+
 	// The medium decision, filled by the media rule engine.
 	Medium        string       // catalog medium id, e.g. "os2"; "" when infeasible
 	Application   string       // IEEE 802.3 PHY, e.g. "10GBASE-LR"
