@@ -26,8 +26,24 @@ type Step struct {
 // Props become the feature's properties as they are (nil writes {}).
 type RouteFeature struct {
 	FromBuilding, ToBuilding string
+	// FromEntrance and ToEntrance name the entrances (Entry IDs) the route uses at each
+	// building; "" means the building's Access.
+	FromEntrance, ToEntrance string
 	Steps                    []Step
 	Props                    map[string]any
+}
+
+// entranceOf is building b's entrance named id, or its Access when id is "".
+func (n *Network) entranceOf(b, id string) (Access, bool) {
+	if id == "" {
+		return n.AccessOf(b)
+	}
+	for _, e := range n.EntrancesOf(b) {
+		if e.ID == id {
+			return e.Access, true
+		}
+	}
+	return Access{}, false
 }
 
 // CoordDecimals is how many decimals of a degree the writers keep (1e-7° is about 1 cm).
@@ -50,9 +66,9 @@ func (n *Network) RouteLine(f RouteFeature) (orb.LineString, error) {
 	}
 	cur := ""
 	if f.FromBuilding != "" {
-		a, ok := n.AccessOf(f.FromBuilding)
+		a, ok := n.entranceOf(f.FromBuilding, f.FromEntrance)
 		if !ok {
-			return nil, fmt.Errorf("geo: route from unknown building %q", f.FromBuilding)
+			return nil, fmt.Errorf("geo: route from unknown building %q or entrance %q", f.FromBuilding, f.FromEntrance)
 		}
 		add(a.Lateral)
 		cur = a.Junction
@@ -73,9 +89,9 @@ func (n *Network) RouteLine(f RouteFeature) (orb.LineString, error) {
 		cur = to
 	}
 	if f.ToBuilding != "" {
-		a, ok := n.AccessOf(f.ToBuilding)
+		a, ok := n.entranceOf(f.ToBuilding, f.ToEntrance)
 		if !ok {
-			return nil, fmt.Errorf("geo: route to unknown building %q", f.ToBuilding)
+			return nil, fmt.Errorf("geo: route to unknown building %q or entrance %q", f.ToBuilding, f.ToEntrance)
 		}
 		if cur != "" && a.Junction != cur {
 			return nil, fmt.Errorf("geo: route ends at junction %q, but building %q is reached at %q", cur, f.ToBuilding, a.Junction)

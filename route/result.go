@@ -29,9 +29,11 @@ type Result struct {
 	// plan's total is the legs' totals plus ExtraCents.
 	ExtraCents int64
 
-	Engine *media.Engine         // the engine that chose the media
-	Opened []string              // proposed spans the plan builds, by span ID
-	Fill   []routing.SegmentFill // duct fill of every span that carries cable, by span ID
+	Engine *media.Engine // the engine that chose the media
+	Opened []string      // proposed spans the plan builds, by span ID
+	// Handholes are the handholes the plan adds at junctions without a structure (routing).
+	Handholes []routing.Handhole
+	Fill      []routing.SegmentFill // duct fill of every span that carries cable, by span ID
 	// ObjectiveCents is the optimizer's objective for the routes it returned
 	// (optimize.Solution.TotalCents): see the README's "One cost model".
 	ObjectiveCents int64
@@ -96,14 +98,12 @@ func SolveWith(ctx context.Context, s *site.Site, p *plan.Plan, eng *media.Engin
 		return nil, err
 	}
 	r := &Result{Plan: p, Site: s, Hub: hub, Links: links, Legs: rt.Legs, Currency: eng.PriceBook().Currency, Engine: eng,
-		Opened: rt.Opened, Fill: rt.Fill, ObjectiveCents: rt.ObjectiveCents, Notes: pr.notes}
+		Opened: rt.Opened, Handholes: rt.Handholes, Fill: rt.Fill, ObjectiveCents: rt.ObjectiveCents, Notes: pr.notes}
 	for _, w := range s.Net.Warnings {
 		r.Warnings = append(r.Warnings, w.File+": "+w.Feature+": "+w.Message)
 	}
-	if cut := s.UnreachableServed(hub, links); len(cut) > 0 {
-		r.cutOff(cut)
-	}
-	e, err := estimate.Build(ctx, estimate.Input{Site: s, Plan: p, Engine: eng, Legs: r.Legs, Fill: r.Fill, Opened: r.Opened})
+	r.cutOff(s.UnreachableServed(hub, links))
+	e, err := estimate.Build(ctx, estimate.Input{Site: s, Plan: p, Engine: eng, Legs: r.Legs, Fill: r.Fill, Opened: r.Opened, Handholes: r.Handholes})
 	if err != nil {
 		return nil, err
 	}
@@ -167,25 +167,21 @@ func (r *Result) Inputs() []string {
 	return in
 }
 
-// cutOff gives every leg the optimizer could not route because a building at one of its ends
-// has no path to the hub the reason that names what to fix (site.Site.CutOff), in place of
-// the media's reasons, and warns once per cut-off building. The rest of the plan stands.
+// cutOff gives every leg the optimizer could not route because the network keeps its two
+// buildings apart — one is cut off from the other, or reaches it only through buildings routes
+// may not cross — the reason that names what to fix (site.Site.Apart), in place of the media's
+// reasons, and warns once per building cut off from the hub. The rest of the plan stands.
 func (r *Result) cutOff(buildings []string) {
-	why := make(map[string]string, len(buildings))
 	for _, b := range buildings {
-		why[b] = r.Site.CutOff(b, r.Hub)
-		r.Warnings = append(r.Warnings, why[b])
+		r.Warnings = append(r.Warnings, r.Site.CutOff(b, r.Hub))
 	}
 	for i := range r.Legs {
 		l := &r.Legs[i]
-		if l.Feasible {
+		if l.Feasible || (l.Name == routing.LegDiverse && l.Reason == routing.PrimaryInfeasible) {
 			continue
 		}
-		for _, b := range []string{l.Link.To, l.Link.From} {
-			if w, ok := why[b]; ok {
-				l.Reason, l.Choice, l.Rejected = w, "", nil
-				break
-			}
+		if why, apart := r.Site.Apart(l.Link.To, l.Link.From); apart {
+			l.Reason, l.Choice, l.Rejected = why, "", nil
 		}
 	}
 }

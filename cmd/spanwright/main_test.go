@@ -145,7 +145,7 @@ func TestBadInput(t *testing.T) {
 		{"unknown link buildings, all reported", []string{"plan", "testdata/plans/unknown_link.yaml", "--out", "x"}, exitInvalid,
 			[]string{`unknown_link.yaml:5:10: links[1].to: unknown building "GHOST"`, `unknown_link.yaml:6:12: links[2].from: unknown building "PHANTOM"`}},
 		{"check names unreachable", []string{"check", "testdata/plans/island.yaml"}, exitInfeasible, []string{"cannot reach the hub HQ: [ISLE]",
-			"cut off: building ISLE is cut off from the hub HQ: the pathways that reach it (D2) join none that reaches the hub"}},
+			"cut off: building ISLE is cut off from HQ: the pathways that reach it (D2) join none that reaches HQ"}},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
@@ -175,7 +175,7 @@ func TestCutOffBuilding(t *testing.T) {
 	if code != exitInfeasible {
 		t.Fatalf("exit %d, want %d (%s)", code, exitInfeasible, msg)
 	}
-	const why = "building ISLE is cut off from the hub HQ: the pathways that reach it (D2) join none that reaches the hub"
+	const why = "building ISLE is cut off from HQ: the pathways that reach it (D2) join none that reaches HQ"
 	if !strings.Contains(stdout+msg, why) {
 		t.Errorf("output lacks %q:\n%s%s", why, stdout, msg)
 	}

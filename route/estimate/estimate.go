@@ -113,6 +113,9 @@ type Construction struct {
 	// NewJunctions are the handholes where opened pathways join the network at a junction
 	// with no structure (common practice, no published source), by junction ID.
 	NewJunctions []string
+	// TurnJunctions are the handholes or pull boxes added where a route turns from one pathway
+	// into another at a junction with no structure (geo.PassNeedsStructure), by junction ID.
+	TurnJunctions []string
 }
 
 // fibre tells whether the leg's medium is optical fibre.
@@ -129,6 +132,9 @@ type Input struct {
 	Legs   []routing.Leg // Build sets each feasible leg's Cost from its bill items
 	Fill   []routing.SegmentFill
 	Opened []string // proposed spans the plan builds, by span ID
+	// Handholes are the handholes the plan adds at junctions without a structure
+	// (routing.Routed.Handholes); the pulling plan takes them as pull points.
+	Handholes []routing.Handhole
 }
 
 // run is one estimate being built.
@@ -243,8 +249,8 @@ func (r *run) pullPlan(i int, added map[string]bool) {
 			sp := &spans[j]
 			rm := radius(sp)
 			if j > first {
-				if s.IsStructure(juncs[j]) {
-					points = append(points, len(steps))
+				if s.IsStructure(juncs[j]) || slices.Contains(leg.Turns, juncs[j]) {
+					points = append(points, len(steps)) // a structure, or one the plan adds where it turns
 				} else if turn := s.Net.TurnDeg(leg.Steps[j-1], leg.Steps[j]); turn > 0 {
 					rb := math.Min(rm, radius(&spans[j-1]))
 					steps = append(steps, install.Step{Kind: install.KindBend, AngleDeg: turn, RadiusM: rb})
@@ -471,21 +477,20 @@ func (c *Construction) newWork(sp *geo.Span) {
 func (r *run) construction() {
 	s := r.Site
 	c := Construction{TrenchM: map[string]float64{}}
-	access := map[string]bool{}
-	for _, a := range s.Net.Access {
-		access[a.Junction] = true
-	}
-	newJ := map[string]bool{}
 	for _, id := range r.Opened {
 		sp, _ := s.Net.Span(id)
 		c.newWork(&sp)
 		if sp.Type == geo.TypeDuct {
 			c.AddedDuctM += sp.LengthM
 		}
-		for _, j := range []string{sp.From, sp.To} {
-			if jn, ok := s.Net.Junction(j); ok && jn.Kind == geo.JunctionNode && !access[j] {
-				newJ[j] = true
-			}
+	}
+	// The handholes are the routing's (routing.Routed.Handholes): the optimizer's charges it
+	// paid, so the bill counts what the model counted.
+	for _, h := range r.Handholes {
+		if h.Joins {
+			c.NewJunctions = append(c.NewJunctions, h.Junction)
+		} else {
+			c.TurnJunctions = append(c.TurnJunctions, h.Junction)
 		}
 	}
 	for _, f := range r.Fill {
@@ -495,10 +500,6 @@ func (r *run) construction() {
 			c.AddedDuctM += float64(f.AddedDucts) * sp.LengthM
 		}
 	}
-	for j := range newJ {
-		c.NewJunctions = append(c.NewJunctions, j)
-	}
-	sort.Strings(c.NewJunctions)
 	c.NewM = c.BoreM
 	for _, sf := range slices.Sorted(maps.Keys(c.TrenchM)) { // in one order: a float sum depends on it
 		c.NewM += c.TrenchM[sf]
@@ -634,6 +635,9 @@ func (r *run) quantities() {
 		e.Quantities = append(e.Quantities, items.Bore(con.BoreM))
 	}
 	e.Quantities = append(e.Quantities, items.AddedDuct(con.AddedDuctM), items.JoinHandholes(len(con.NewJunctions)))
+	if len(con.TurnJunctions) > 0 { // a price book without handholes stays valid while no route turns
+		e.Quantities = append(e.Quantities, items.TurnHandholes(len(con.TurnJunctions)))
+	}
 	add(media.CategoryConstruction, "handhole for an added pull point", media.UnitEach, float64(e.AddedPullPoints),
 		media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole})
 }

@@ -120,23 +120,22 @@ func JoinHandholes(n int) media.Quantity {
 		Unit: media.UnitEach, Amount: float64(n), Price: media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole}}
 }
 
-// Opening is what opening a proposed span takes: its new work, a duct when it is a duct, and
-// a handhole at each end that is a junction without a structure (see site.Site.JoinsNetwork).
-func Opening(s *site.Site, sp *geo.Span) []media.Quantity {
+// Opening is what opening a proposed span takes: its new work, and a duct when it is a duct.
+// The handholes where it joins the network are charges of their junctions, paid once however
+// many opened spans meet there (package routing, layout).
+func Opening(sp *geo.Span) []media.Quantity {
 	q := NewWork(sp, sp.LengthM)
 	if sp.Type == geo.TypeDuct {
 		q = append(q, AddedDuct(sp.LengthM))
 	}
-	n := 0
-	for _, j := range []string{sp.From, sp.To} {
-		if s.JoinsNetwork(j) {
-			n++
-		}
-	}
-	if n > 0 {
-		q = append(q, JoinHandholes(n))
-	}
 	return q
+}
+
+// TurnHandholes is n handholes or pull boxes added where a route turns from one pathway into
+// another at a junction without a structure.
+func TurnHandholes(n int) media.Quantity {
+	return media.Quantity{Category: media.CategoryConstruction, Item: "handhole where a route turns between pathways",
+		Unit: media.UnitEach, Amount: float64(n), Price: media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole}}
 }
 
 // SurfaceOf is the surface priced for new work on a span: its own, else turf.

@@ -153,7 +153,8 @@ func routesGeoJSON(ctx context.Context, r *route.Result) ([]byte, error) {
 			props["limit_db"] = round2(w.LimitDB)
 			props["margin_db"] = round2(w.MarginDB)
 		}
-		feats = append(feats, geo.RouteFeature{FromBuilding: l.Link.To, ToBuilding: l.Link.From, Steps: l.Steps, Props: props})
+		feats = append(feats, geo.RouteFeature{FromBuilding: l.Link.To, ToBuilding: l.Link.From,
+			FromEntrance: l.EntranceTo, ToEntrance: l.EntranceFrom, Steps: l.Steps, Props: props})
 	}
 	var buf bytes.Buffer
 	if err := r.Site.Net.WriteRoutesContext(ctx, &buf, feats); err != nil {

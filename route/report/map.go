@@ -242,7 +242,7 @@ func buildMap(ctx context.Context, r *route.Result, opt Options, med map[string]
 		if !l.Feasible {
 			continue
 		}
-		ls, err := net.RouteLine(geo.RouteFeature{FromBuilding: l.Link.To, ToBuilding: l.Link.From, Steps: l.Steps})
+		ls, err := net.RouteLine(geo.RouteFeature{FromBuilding: l.Link.To, ToBuilding: l.Link.From, FromEntrance: l.EntranceTo, ToEntrance: l.EntranceFrom, Steps: l.Steps})
 		if err != nil {
 			return mapView{}, fmt.Errorf("report: map of %s %s: %w", l.Link.ID, l.Name, err)
 		}

@@ -17,11 +17,12 @@ import (
 // any, can stop at an optimum that depends on the order it meets demands and edges in; solved
 // in this order, a campus whose ids are renamed gets the same plan.
 type canonical struct {
-	prob  *optimize.Problem // the problem in canonical order
-	edge  []int             // canonical edge index → the original's
-	dem   []int             // canonical demand index → the original's
-	node  []int             // canonical node index → the original's
-	group []int             // canonical group number → the original's (0 stays 0)
+	prob   *optimize.Problem // the problem in canonical order
+	edge   []int             // canonical edge index → the original's
+	dem    []int             // canonical demand index → the original's
+	node   []int             // canonical node index → the original's
+	group  []int             // canonical group number → the original's (0 stays 0)
+	charge []int             // canonical charge index → the original's
 }
 
 // canonicalize orders p canonically; at gives each original node's position (lon, lat) and
@@ -85,6 +86,41 @@ func canonicalize(p *optimize.Problem, at func(node int) [2]float64, name func(n
 		e.From, e.To, e.Group = rank[e.From], rank[e.To], groupOf[e.Group]
 		cp.Edges[k] = e
 		edgeRank[i] = k
+	}
+	if p.NoTransit != nil {
+		cp.NoTransit = make([]bool, len(p.NoTransit))
+		for k, n := range c.node {
+			cp.NoTransit[k] = p.NoTransit[n]
+		}
+	}
+	if len(p.Charges) > 0 {
+		// Charges by their smallest canonical edge, then amount, then ID.
+		c.charge = make([]int, len(p.Charges))
+		for i := range c.charge {
+			c.charge[i] = i
+		}
+		first := func(ch *optimize.Charge) int {
+			f := len(p.Edges)
+			for _, e := range ch.Edges {
+				f = min(f, edgeRank[e])
+			}
+			return f
+		}
+		slices.SortStableFunc(c.charge, func(i, j int) int {
+			a, b := &p.Charges[i], &p.Charges[j]
+			return cmp.Or(cmp.Compare(first(a), first(b)), cmp.Compare(a.Cents, b.Cents), strings.Compare(a.ID, b.ID))
+		})
+		cp.Charges = make([]optimize.Charge, len(p.Charges))
+		for k, i := range c.charge {
+			ch := p.Charges[i]
+			edges := make([]int, len(ch.Edges))
+			for x, e := range ch.Edges {
+				edges[x] = edgeRank[e]
+			}
+			slices.Sort(edges)
+			ch.Edges = edges
+			cp.Charges[k] = ch
+		}
 	}
 	cp.Demands = make([]optimize.Demand, len(p.Demands))
 	for k, i := range c.dem {
@@ -171,6 +207,13 @@ func (c *canonical) back(s *optimize.Solution) *optimize.Solution {
 		out.Fill[i] = f
 	}
 	slices.SortFunc(out.Fill, func(a, b optimize.EdgeFill) int { return cmp.Compare(a.Edge, b.Edge) })
+	if s.Charged != nil {
+		out.Charged = make([]int, len(s.Charged))
+		for i, k := range s.Charged {
+			out.Charged[i] = c.charge[k]
+		}
+		slices.Sort(out.Charged)
+	}
 	return &out
 }
 
@@ -181,8 +224,8 @@ func (c *canonical) back(s *optimize.Solution) *optimize.Solution {
 //
 // The optimizer sees the problem in canonical order (canon.go), so that the plan depends on
 // the campus's geometry and costs, not on the names of its ids.
-func solve(ctx context.Context, s *site.Site, prob *optimize.Problem, opt optimize.Settings) (*optimize.Solution, error) {
-	c := canonicalize(prob, func(n int) [2]float64 { return s.Net.Junctions[n].Point }, func(n int) string { return s.Net.Junctions[n].ID })
+func solve(ctx context.Context, s *site.Site, lay *layout, prob *optimize.Problem, opt optimize.Settings) (*optimize.Solution, error) {
+	c := canonicalize(prob, func(n int) [2]float64 { return lay.at[n] }, func(n int) string { return lay.name[n] })
 	key, ok := optimize.Fingerprint(c.prob, opt)
 	if ok {
 		if sol, hit := s.Solved.Get(key); hit {

@@ -52,6 +52,7 @@ type Model struct {
 	prices      *media.PriceBook
 	design      plan.Design
 	allowedMemo map[allowedKey]bool
+	layout      *layout // the optimizer's graph of the last problem stated (problem)
 	cableMemo   map[cableKey]int64
 	// classes are the span classes of the campus in a fixed order, and classBit each one's flag.
 	classes  []spanClass
@@ -200,12 +201,17 @@ func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, []de
 	for i, n := range names {
 		groups[n] = i + 1
 	}
+	lay := newLayout(s, len(names)+1)
 	m.classes, m.classBit = nil, map[spanClass]uint64{}
 	for i := range net.Spans {
 		if c := classOf(&net.Spans[i]); m.classBit[c] == 0 {
 			m.classBit[c] = 1 // numbered below, in a fixed order
 			m.classes = append(m.classes, c)
 		}
+	}
+	if lay.lateral && m.classBit[lateralClass] == 0 { // entrance edges with a lateral run in this class
+		m.classBit[lateralClass] = 1
+		m.classes = append(m.classes, lateralClass)
 	}
 	slices.SortFunc(m.classes, func(a, b spanClass) int {
 		return cmp.Or(strings.Compare(a.typ, b.typ), strings.Compare(a.emi, b.emi), boolCmp(a.outdoor, b.outdoor), boolCmp(a.plenum, b.plenum))
@@ -219,14 +225,16 @@ func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, []de
 		// the flags above firstClassFlag.
 		m.classBit[c] = firstClassFlag << k
 	}
-	p := &optimize.Problem{Nodes: len(net.Junctions), AllowNew: m.design.AllowNewTrench,
-		Edges: make([]optimize.Edge, len(net.Spans))}
+	p := &optimize.Problem{Nodes: lay.nodes, AllowNew: m.design.AllowNewTrench,
+		Edges: make([]optimize.Edge, len(net.Spans), len(net.Spans)+len(lay.extra))}
+	if slices.Contains(lay.noTransit, true) {
+		p.NoTransit = lay.noTransit
+	}
 	d := m.design
 	// Duct fill: the optimizer's incremental NFPA 70 Chapter 9 Table 1 packing (nil Fits).
 	for i := range net.Spans {
 		sp := &net.Spans[i]
-		u, _ := s.Graph.NodeOf(sp.From)
-		v, _ := s.Graph.NodeOf(sp.To)
+		u, v := lay.spanEnds[i][0], lay.spanEnds[i][1]
 		// Half the slack loop at each end's structure: a route passing a structure crosses two
 		// of its spans; the halves at a route's two ends are its demand's (demand).
 		loops := (items.LoopM(s, d, sp.From) + items.LoopM(s, d, sp.To)) / 2
@@ -237,7 +245,7 @@ func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, []de
 			e.Flags |= flagDuct
 		}
 		if sp.Status == geo.StatusProposed {
-			open := items.Opening(s, sp)
+			open := items.Opening(sp)
 			if err := m.prices.Check(items.KeysOf(open)); err != nil {
 				return nil, nil, err
 			}
@@ -252,6 +260,32 @@ func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, []de
 		}
 		p.Edges[i] = e
 	}
+	for _, x := range lay.extra {
+		e := optimize.Edge{From: x.from, To: x.to}
+		switch x.kind {
+		case edgeEntrance:
+			e.ID, e.Group = "entrance "+x.entry.ID+" of "+x.building, x.group
+			if lat := x.entry.LateralM; lat > 0 {
+				// The entrance's lateral: cable and its buried pull, outdoors.
+				e.LengthM, e.CableM = lat, items.Wasted(d, lat)
+				e.PerCableCents = m.cents(items.LegEnds(0, 0, lat)...)
+				e.Flags = m.classBit[lateralClass]
+			}
+		case edgeTurn:
+			e.ID = "turn at " + x.junction
+		}
+		p.Edges = append(p.Edges, e)
+	}
+	if len(lay.charges) > 0 {
+		if err := m.prices.Check(items.KeysOf([]media.Quantity{items.JoinHandholes(1)})); err != nil {
+			return nil, nil, err
+		}
+		hh := m.cents(items.JoinHandholes(1))
+		for _, c := range lay.charges {
+			p.Charges = append(p.Charges, optimize.Charge{ID: "handhole at " + c.junction, Edges: c.edges, Cents: hh})
+		}
+	}
+	m.layout = lay
 	infos := make([]demandInfo, len(links))
 	for i := range links {
 		d, info := demand(s, m, &links[i])
@@ -272,9 +306,12 @@ type demandInfo struct {
 
 // demand turns a link into the optimizer's demand with one option per medium that can carry it.
 func demand(s *site.Site, m *Model, l *site.Link) (optimize.Demand, demandInfo) {
-	src, dst := s.Access(l.To), s.Access(l.From)
-	srcN, _ := s.Graph.NodeOf(src.Junction)
-	dstN, _ := s.Graph.NodeOf(dst.Junction)
+	// A building with one entrance ends at it, with its lateral counted here; one with several
+	// ends at its own node, each entrance edge carrying its lateral (layout).
+	lay := m.layout
+	src, dst := lay.endEntry[l.To], lay.endEntry[l.From]
+	srcN, okS := lay.end[l.To]
+	dstN, okD := lay.end[l.From]
 	rate, _ := m.eng.Catalog().ParseRate(l.Rate)
 	future := 0.0
 	if l.FutureRate != "" {
@@ -299,6 +336,9 @@ func demand(s *site.Site, m *Model, l *site.Link) (optimize.Demand, demandInfo) 
 		InsideAM: insideTo, InsideBM: insideFrom}
 	info := demandInfo{facts: facts, rate: rate, strands: strands}
 	dm := optimize.Demand{ID: l.ID, Source: int(srcN), Target: int(dstN), Diverse: l.Diverse}
+	if !okS || !okD {
+		return dm, info // no entrance: no option, so no route (the reason comes from the site, route.Result.cutOff)
+	}
 	for _, med := range m.eng.Media() {
 		mm := m.eng.Catalog().Medium(med)
 		if lateral > 0 && !m.allowed(med, rate, future, strands, lateralClass) {

@@ -19,6 +19,9 @@ const (
 	LegDiverse = "diverse"
 )
 
+// PrimaryInfeasible is the reason of a diverse leg whose primary is infeasible.
+const PrimaryInfeasible = "the primary leg is infeasible"
+
 // Leg is one routed cable of a link: the primary, or the diverse second route.
 type Leg struct {
 	Link     *site.Link
@@ -79,7 +82,7 @@ func (c LegCost) TotalCents() int64 {
 
 // legsOf turns the optimizer's route of one link into its legs, with media and costs.
 func legsOf(s *site.Site, cm *Model, prob *optimize.Problem, rt *optimize.Route, l *site.Link, info demandInfo, why string) []Leg {
-	from, to := s.Access(l.To), s.Access(l.From)
+	from, to := cm.layout.endEntry[l.To], cm.layout.endEntry[l.From]
 	base := Leg{Link: l, RiserM: info.facts.RiserM, LateralM: from.LateralM + to.LateralM, StrandsCable: info.strands}
 	primary := base
 	primary.Name = LegPrimary
@@ -94,21 +97,27 @@ func legsOf(s *site.Site, cm *Model, prob *optimize.Problem, rt *optimize.Route,
 		legs := []Leg{primary}
 		if l.Diverse {
 			d := base
-			d.Name, d.Reason = LegDiverse, "the primary leg is infeasible"
+			d.Name, d.Reason = LegDiverse, PrimaryInfeasible
 			legs = append(legs, d)
 		}
 		return legs
 	}
 	fillLeg(s, cm, &primary, rt.Primary, rt.Medium, info)
-	primary.Cost.ConstructionCents += rt.Cost.ConstructionShareCents + rt.Cost.AddedDuctCents
+	primary.Cost.ConstructionCents += rt.Cost.ConstructionShareCents + rt.Cost.AddedDuctCents + rt.Cost.ChargeShareCents
 	legs := []Leg{primary}
 	if l.Diverse {
 		d := base
 		d.Name = LegDiverse
 		if len(rt.Secondary.Hops) > 0 {
 			fillLeg(s, cm, &d, rt.Secondary, rt.Medium, info)
+			// Both legs leave a building with one entrance by it: diverse outside, not there.
+			for _, b := range []string{l.To, l.From} {
+				if e, one := cm.layout.endEntry[b]; one && d.Feasible {
+					d.Choice += fmt.Sprintf("; both legs use building %s's only entrance %s, a single point of failure", b, e.ID)
+				}
+			}
 		} else {
-			d.Reason = "no diverse route: " + singlePoint(s, prob, rt)
+			d.Reason = "no diverse route: " + singlePoint(s, cm.layout, prob, rt)
 		}
 		legs = append(legs, d)
 	}
@@ -118,14 +127,56 @@ func legsOf(s *site.Site, cm *Model, prob *optimize.Problem, rt *optimize.Route,
 // fillLeg sets a leg's route and its medium from the rule engine on the route's own facts;
 // the estimate prices it (package estimate).
 func fillLeg(s *site.Site, cm *Model, leg *Leg, ol optimize.Leg, medium string, info demandInfo) {
+	lay := cm.layout
+	if e, ok := lay.endEntry[leg.Link.To]; ok {
+		leg.EntranceTo = e.ID
+	}
+	if e, ok := lay.endEntry[leg.Link.From]; ok {
+		leg.EntranceFrom = e.ID
+	}
+	// The lateral at an end with one entrance is the demand's; those of entrance edges are
+	// added as the route takes them.
+	for _, h := range ol.Hops {
+		if x, ok := lay.isExtra(len(s.Net.Spans), h.Edge); ok && x.kind == edgeEntrance {
+			leg.LateralM += x.entry.LateralM
+			if x.building == leg.Link.To {
+				leg.EntranceTo = x.entry.ID
+			} else {
+				leg.EntranceFrom = x.entry.ID
+			}
+		}
+	}
 	leg.RouteM = leg.LateralM
 	emi := geo.EMINone
 	outdoor := leg.LateralM > 0
 	plenum := false
 	types := map[string]bool{}
 	seen := map[string]bool{}
-	for _, h := range ol.Hops {
+	for k, h := range ol.Hops {
+		x, extra := lay.isExtra(len(s.Net.Spans), h.Edge)
+		switch {
+		case extra && x.kind == edgeTurn:
+			leg.Turns = append(leg.Turns, x.junction)
+			continue
+		case extra:
+			continue
+		}
 		sp := &s.Net.Spans[h.Edge]
+		if k+1 < len(ol.Hops) {
+			// The junction the route passes after this span: in a building other than the
+			// leg's own, the route crosses that building (allowed there, or it would not pass).
+			j := sp.To
+			if !h.Forward {
+				j = sp.From
+			}
+			if m, ok := s.Net.MeetingAt(j); ok {
+				for _, b := range m.Buildings {
+					if b != leg.Link.To && b != leg.Link.From && (len(leg.Crosses) == 0 || leg.Crosses[len(leg.Crosses)-1] != b) {
+						leg.Crosses = append(leg.Crosses, b)
+					}
+				}
+			}
+		}
 		leg.Steps = append(leg.Steps, geo.Step{SpanID: sp.ID, Reverse: !h.Forward})
 		leg.RouteM += sp.LengthM
 		if !seen[sp.PathwayID] {
@@ -193,7 +244,7 @@ func worstMargin(ls []media.Loss) float64 {
 }
 
 // singlePoint says in words what keeps a diverse link from two independent routes.
-func singlePoint(s *site.Site, prob *optimize.Problem, rt *optimize.Route) string {
+func singlePoint(s *site.Site, lay *layout, prob *optimize.Problem, rt *optimize.Route) string {
 	sp := rt.SinglePoint
 	if sp == nil {
 		if rt.Note != "" {
@@ -204,11 +255,22 @@ func singlePoint(s *site.Site, prob *optimize.Problem, rt *optimize.Route) strin
 	var what string
 	switch sp.Kind {
 	case optimize.PointEdge:
-		what = fmt.Sprintf("every route uses span %s (pathway %s)", s.Net.Spans[sp.Index].ID, s.Net.Spans[sp.Index].PathwayID)
+		switch x, extra := lay.isExtra(len(s.Net.Spans), sp.Index); {
+		case !extra:
+			what = fmt.Sprintf("every route uses span %s (pathway %s)", s.Net.Spans[sp.Index].ID, s.Net.Spans[sp.Index].PathwayID)
+		case x.kind == edgeEntrance:
+			what = fmt.Sprintf("every route uses entrance %s of building %s", x.entry.ID, x.building)
+		default:
+			what = fmt.Sprintf("every route turns at junction %s", x.junction)
+		}
 	case optimize.PointNode:
-		what = fmt.Sprintf("every route passes junction %s", s.Net.Junctions[sp.Index].ID)
+		if j := lay.junction[sp.Index]; j >= 0 {
+			what = fmt.Sprintf("every route passes junction %s", s.Net.Junctions[j].ID)
+		} else {
+			what = fmt.Sprintf("every route passes %s", lay.name[sp.Index])
+		}
 	case optimize.PointGroup:
-		what = fmt.Sprintf("every route found shares the shared-risk group %s", groupName(s, prob, sp.Index))
+		what = fmt.Sprintf("every route found shares the shared-risk group %s", groupName(s, lay, prob, sp.Index))
 	}
 	if !sp.Separates && sp.Kind == optimize.PointGroup {
 		what += " (a heuristic finding: group-disjoint routing is NP-hard)"
@@ -216,11 +278,16 @@ func singlePoint(s *site.Site, prob *optimize.Problem, rt *optimize.Route) strin
 	return what
 }
 
-func groupName(s *site.Site, prob *optimize.Problem, g int) string {
+// groupName names shared-risk group g: a span's group, or the entrance whose edges share it.
+func groupName(s *site.Site, lay *layout, prob *optimize.Problem, g int) string {
 	for i, e := range prob.Edges {
-		if e.Group == g {
-			return s.Net.Spans[i].Group
+		if e.Group != g {
+			continue
 		}
+		if x, extra := lay.isExtra(len(s.Net.Spans), i); extra {
+			return "entrance " + x.entry.ID + " of building " + x.building
+		}
+		return s.Net.Spans[i].Group
 	}
 	return strconv.Itoa(g)
 }
@@ -240,6 +307,9 @@ type SegmentFill struct {
 func fillReport(s *site.Site, prob *optimize.Problem, sol *optimize.Solution) []SegmentFill {
 	out := make([]SegmentFill, 0, len(sol.Fill))
 	for _, f := range sol.Fill {
+		if f.Edge >= len(s.Net.Spans) {
+			continue // an entrance or turn edge holds no cable of its own
+		}
 		sp := &s.Net.Spans[f.Edge]
 		out = append(out, SegmentFill{Span: sp.ID, PathwayID: sp.PathwayID, Cables: f.Cables, Limited: f.Limited,
 			Ducts: f.Ducts, AddedDucts: f.AddedDucts, UsedAreaMM2: f.UsedAreaMM2, AllowedAreaMM2: f.AllowedAreaMM2})
@@ -256,6 +326,9 @@ func interiorM(s *site.Site, b string, ol optimize.Leg) float64 {
 	}
 	m := 0.0
 	for _, h := range ol.Hops {
+		if h.Edge >= len(s.Net.Spans) {
+			continue // an entrance or turn edge: no length inside
+		}
 		if sp := &s.Net.Spans[h.Edge]; slices.Contains(t.Interior, sp.PathwayID) {
 			m += sp.LengthM
 		}

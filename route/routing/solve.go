@@ -3,6 +3,7 @@ package routing
 import (
 	"context"
 	"fmt"
+	"slices"
 
 	"spanwright/route/internal/ctxio"
 	"spanwright/route/optimize"
@@ -15,9 +16,19 @@ type Routed struct {
 	Legs   []Leg
 	Opened []string      // proposed spans the plan builds, by span ID
 	Fill   []SegmentFill // duct fill of every span that carries cable, by span ID
+	// Handholes are the handholes or pull boxes the plan adds at junctions without a
+	// structure, by junction ID: where new pathway joins the network, or where a route turns
+	// from one pathway into another.
+	Handholes []Handhole
 	// ObjectiveCents is the optimizer's objective for the routes it returned
 	// (optimize.Solution.TotalCents): see the README's "One cost model".
 	ObjectiveCents int64
+}
+
+// Handhole is a handhole the plan adds at a junction without a structure.
+type Handhole struct {
+	Junction string
+	Joins    bool // an opened proposed span ends there; else only routes turn there
 }
 
 // Solve routes links over the site with the model's prices and rules, and chooses each leg's
@@ -32,7 +43,8 @@ func Solve(ctx context.Context, s *site.Site, m *Model, links []site.Link) (*Rou
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
-	sol, err := solve(ctx, s, prob, optimize.Settings{Objective: m.design.Objective})
+	lay := m.layout
+	sol, err := solve(ctx, s, lay, prob, optimize.Settings{Objective: m.design.Objective})
 	if err != nil {
 		if ctx.Err() != nil {
 			return nil, ctx.Err()
@@ -42,6 +54,11 @@ func Solve(ctx context.Context, s *site.Site, m *Model, links []site.Link) (*Rou
 	r := &Routed{ObjectiveCents: sol.TotalCents, Fill: fillReport(s, prob, sol)}
 	for _, e := range sol.Opened {
 		r.Opened = append(r.Opened, s.Net.Spans[e].ID)
+	}
+	for _, k := range sol.Charged {
+		c := lay.charges[k]
+		joins := slices.ContainsFunc(sol.Opened, func(e int) bool { return slices.Contains(c.edges, e) })
+		r.Handholes = append(r.Handholes, Handhole{Junction: c.junction, Joins: joins})
 	}
 	infeasible := map[int]string{}
 	for _, in := range sol.Infeasible {

@@ -141,8 +141,22 @@ func (s *Site) ThroughOnly(hub string) []string {
 // carries when no route reaches it.
 func (s *Site) Through(b, hub string) string {
 	_, blockers := s.search(b, hub)
-	return fmt.Sprintf("building %s reaches the hub %s only through %s, which routes may not cross: draw the pathway through the building (a tunnel or tray inside it) or give it the property %q: true",
+	return fmt.Sprintf("building %s reaches %s only through %s, which routes may not cross: draw the pathway through the building (a tunnel or tray inside it) or give it the property %s: true",
 		b, hub, strings.Join(blockers, ", "), geo.PropTransit)
+}
+
+// Apart says why no route joins buildings a and b, when the network is the cause: a is cut
+// off from b (CutOff), or reaches it only through buildings routes may not cross (Through).
+// It returns false when a route between them exists as far as the network goes.
+func (s *Site) Apart(a, b string) (string, bool) {
+	if !s.Joined(a, b) {
+		return s.CutOff(a, b), true
+	}
+	seen, _ := s.search(a, b)
+	if slices.ContainsFunc(s.Net.EntrancesOf(b), func(e geo.Entry) bool { return seen[e.Junction] }) {
+		return "", false
+	}
+	return s.Through(a, b), true
 }
 
 // search walks the network from the entrances of building from, along spans and between the
@@ -228,9 +242,9 @@ func (s *Site) CutOff(b, hub string) string {
 	slices.Sort(ids)
 	var why string
 	if len(ids) == 0 {
-		why = fmt.Sprintf("building %s is cut off from the hub %s: no pathway reaches it (none ends on or within snap_m of its footprint, and none passes within max_lateral_m)", b, hub)
+		why = fmt.Sprintf("building %s is cut off from %s: no pathway reaches it (none ends on or within snap_m of its footprint, and none passes within max_lateral_m)", b, hub)
 	} else {
-		why = fmt.Sprintf("building %s is cut off from the hub %s: the pathways that reach it (%s) join none that reaches the hub", b, hub, strings.Join(ids, ", "))
+		why = fmt.Sprintf("building %s is cut off from %s: the pathways that reach it (%s) join none that reaches %s", b, hub, strings.Join(ids, ", "), hub)
 	}
 	if misses := s.nearMissesOf(b, 3); len(misses) > 0 {
 		texts := make([]string, len(misses))

@@ -82,7 +82,7 @@ func (s *Site) UnreachableServed(hub string, links []Link) []string {
 }
 
 // JoinsNetwork reports whether an opened span ending at junction j gets a handhole there: j
-// is a junction without a structure that is not a building's access point (common practice,
+// is a junction without a structure that is not a building's entrance (common practice,
 // no published source).
 func (s *Site) JoinsNetwork(j string) bool {
 	jn, ok := s.Net.Junction(j)
@@ -91,6 +91,11 @@ func (s *Site) JoinsNetwork(j string) bool {
 	}
 	for _, a := range s.Net.Access {
 		if a.Junction == j {
+			return false
+		}
+	}
+	for _, e := range s.Net.Entrances {
+		if e.Junction == j {
 			return false
 		}
 	}

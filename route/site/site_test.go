@@ -296,14 +296,14 @@ func TestSiteFacts(t *testing.T) {
 	if got := s.ThroughOnly("A"); !slices.Equal(got, []string{"C"}) {
 		t.Errorf("reached only through another building: %q, want [C]", got)
 	}
-	if got, want := s.Through("C", "A"), `building C reaches the hub A only through B, which routes may not cross`; !strings.HasPrefix(got, want) {
+	if got, want := s.Through("C", "A"), `building C reaches A only through B, which routes may not cross`; !strings.HasPrefix(got, want) {
 		t.Errorf("through reason:\n got %s\nwant %s…", got, want)
 	}
 	if got := s.Unreachable("A"); !slices.Equal(got, []string{"I"}) {
 		t.Fatalf("unreachable: %q, want [I]", got)
 	}
 	why := s.CutOff("I", "A")
-	const want = "building I is cut off from the hub A: the pathways that reach it (DI) join none that reaches the hub; near misses: pathway DI ends 1.0 m from pathway S, beyond snap_m 0.5"
+	const want = "building I is cut off from A: the pathways that reach it (DI) join none that reaches A; near misses: pathway DI ends 1.0 m from pathway S, beyond snap_m 0.5"
 	if !strings.HasPrefix(why, want) {
 		t.Errorf("cut-off reason:\n got %s\nwant %s", why, want)
 	}

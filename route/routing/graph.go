@@ -1,0 +1,258 @@
+package routing
+
+import (
+	"slices"
+
+	"spanwright/geo"
+	"spanwright/route/site"
+)
+
+// The optimizer's graph is the site's network redrawn so that the optimizer's rules are the
+// campus's:
+//
+//   - Edge i is span i, for every span; the edges no span draws come after them.
+//   - A building with two or more entrances is a node of its own, the end of every demand to or
+//     from it, joined by an entrance edge to each entrance (as long as the entrance's counted
+//     lateral, if any). The node is transit-free (optimize.Problem.NoTransit), so no route goes
+//     in at one entrance and out at another through it; a diverse link's two legs leave by two
+//     entrance edges, that is by two entrances. A building with one entrance ends its demands
+//     at the entrance's junction, as before.
+//   - Routes may pass through a building only where the campus allows it (geo.Transit: a
+//     pathway drawn inside it, or its transit property). Where it does not, an entrance in the
+//     building is transit-free when it is the building's only one; when the building has several,
+//     an entrance where two or more spans end is split into one node per span, each joined to
+//     the building's node by its own entrance edge, the edges of one entrance sharing a
+//     shared-risk group (so two legs of a diverse link do not use one entrance twice).
+//   - A junction where three or more spans of different pathways meet with no structure and no
+//     building is split into one node per pathway (a duct carries on through it) joined by turn
+//     edges of no length: a route that turns there from one pathway into another takes a turn
+//     edge (geo.PassNeedsStructure).
+//   - A handhole at a junction without a structure — where the route turns (a turn edge), or
+//     where new pathway joins the network (an opened proposed span ends, site.JoinsNetwork) —
+//     is one charge (optimize.Charge) over those edges, paid once however many routes use it:
+//     the model's count of added handholes is the bill's.
+
+// edgeKind tells an edge of the optimizer's graph that no span draws.
+type edgeKind int
+
+const (
+	edgeEntrance edgeKind = iota + 1 // a building's node to one of its entrances
+	edgeTurn                         // between two pathways at a junction split for turns
+)
+
+// extraEdge is an edge of the optimizer's graph after the spans.
+type extraEdge struct {
+	kind     edgeKind
+	from, to int // nodes
+	building string
+	entry    geo.Entry // edgeEntrance: the entrance
+	junction string    // edgeTurn: the junction; edgeEntrance: the entrance's junction
+	group    int       // edgeEntrance: the shared-risk group of the entrance's copies, 0 for none
+}
+
+// junctionCharge is a handhole the plan may add at a junction without a structure: the edges
+// that need it (turn edges there, opened proposed spans that end there).
+type junctionCharge struct {
+	junction string
+	edges    []int
+	turns    bool // the junction is split for turns
+}
+
+// layout is the optimizer's graph of a site.
+type layout struct {
+	nodes     int
+	junction  []int        // node → index in Net.Junctions, -1 for a building's node
+	name      []string     // node → a name, for the canonical order of nodes at one position
+	at        [][2]float64 // node → position (lon, lat)
+	spanEnds  [][2]int     // span index → its end nodes (From, To)
+	extra     []extraEdge  // edge len(Spans)+k is extra[k]
+	end       map[string]int
+	endEntry  map[string]geo.Entry // a building ending at one entrance: that entrance
+	noTransit []bool
+	charges   []junctionCharge
+	groups    int  // the shared-risk groups the entrance copies use, numbered after the spans'
+	lateral   bool // some entrance edge carries a lateral
+}
+
+// isExtra reports whether edge e is one no span draws, and which.
+func (l *layout) isExtra(spans, e int) (*extraEdge, bool) {
+	if e < spans {
+		return nil, false
+	}
+	return &l.extra[e-spans], true
+}
+
+// newLayout draws the optimizer's graph of the site; firstGroup is the first shared-risk group
+// number free after the spans'.
+func newLayout(s *site.Site, firstGroup int) *layout {
+	net := s.Net
+	l := &layout{end: map[string]int{}, endEntry: map[string]geo.Entry{}, spanEnds: make([][2]int, len(net.Spans))}
+	jIndex := make(map[string]int, len(net.Junctions))
+	for i, j := range net.Junctions {
+		jIndex[j.ID] = i
+	}
+	spansAt := make([][]int, len(net.Junctions)) // junction → spans ending there, in span order
+	for i, sp := range net.Spans {
+		spansAt[jIndex[sp.From]] = append(spansAt[jIndex[sp.From]], i)
+		if sp.To != sp.From {
+			spansAt[jIndex[sp.To]] = append(spansAt[jIndex[sp.To]], i)
+		}
+	}
+	allows := func(b string) bool {
+		t, ok := net.TransitOf(b)
+		return ok && t.Allowed
+	}
+	// Each building's entrance junctions, in junction order, and each entry of them.
+	entrances := map[string][]geo.Entry{}
+	for _, b := range s.Campus.Buildings {
+		seen := map[string]bool{}
+		for _, e := range net.EntrancesOf(b.ID) {
+			if !seen[e.Junction] {
+				seen[e.Junction] = true
+				entrances[b.ID] = append(entrances[b.ID], e)
+			}
+		}
+		if len(entrances[b.ID]) == 0 { // a network built by hand: its Access alone
+			if a := s.Access(b.ID); a.Junction != "" {
+				entrances[b.ID] = []geo.Entry{{ID: a.Junction, Access: a}}
+			}
+		}
+	}
+	// How each junction is drawn: whole, split per span (an entrance of a building routes may
+	// not cross and that has other entrances), or split per pathway (for turns).
+	perSpan := make([]bool, len(net.Junctions))
+	for b, es := range entrances {
+		if len(es) < 2 || allows(b) {
+			continue
+		}
+		for _, e := range es {
+			if j := jIndex[e.Junction]; len(spansAt[j]) >= 2 && inBuilding(net, e.Junction, b) {
+				perSpan[j] = true
+			}
+		}
+	}
+	turnAt := map[int]bool{}
+	for _, j := range s.TurnsNeedingStructure() {
+		if i := jIndex[j]; !perSpan[i] {
+			turnAt[i] = true
+		}
+	}
+	add := func(j int, name string, at [2]float64) int {
+		l.junction = append(l.junction, j)
+		l.name = append(l.name, name)
+		l.at = append(l.at, at)
+		l.nodes++
+		return l.nodes - 1
+	}
+	copies := make([][]int, len(net.Junctions)) // junction → its nodes
+	for j, jn := range net.Junctions {
+		at := [2]float64{jn.Point[0], jn.Point[1]}
+		switch {
+		case perSpan[j]:
+			for _, i := range spansAt[j] {
+				n := add(j, jn.ID+"#"+net.Spans[i].ID, at)
+				copies[j] = append(copies[j], n)
+				l.setEnd(net, i, jn.ID, n)
+			}
+		case turnAt[j]:
+			var pathways []string
+			for _, i := range spansAt[j] {
+				if p := net.Spans[i].PathwayID; !slices.Contains(pathways, p) {
+					pathways = append(pathways, p)
+				}
+			}
+			slices.Sort(pathways)
+			for _, p := range pathways {
+				n := add(j, jn.ID+"#"+p, at)
+				copies[j] = append(copies[j], n)
+				for _, i := range spansAt[j] {
+					if net.Spans[i].PathwayID == p {
+						l.setEnd(net, i, jn.ID, n)
+					}
+				}
+			}
+		default:
+			n := add(j, jn.ID, at)
+			copies[j] = []int{n}
+			for _, i := range spansAt[j] {
+				l.setEnd(net, i, jn.ID, n)
+			}
+		}
+	}
+	l.noTransit = make([]bool, l.nodes)
+	// Buildings: their ends, and their nodes and entrance edges.
+	group := firstGroup
+	for _, b := range s.Campus.Buildings {
+		es := entrances[b.ID]
+		switch {
+		case len(es) == 0:
+		case len(es) == 1:
+			j := jIndex[es[0].Junction]
+			l.end[b.ID], l.endEntry[b.ID] = copies[j][0], es[0]
+			if !allows(b.ID) && inBuilding(net, es[0].Junction, b.ID) {
+				l.noTransit[copies[j][0]] = true
+			}
+		default:
+			first := net.Junctions[jIndex[es[0].Junction]].Point
+			v := add(-1, "building "+b.ID, [2]float64{first[0], first[1]})
+			l.noTransit = append(l.noTransit, true)
+			l.end[b.ID] = v
+			for _, e := range es {
+				j := jIndex[e.Junction]
+				g := 0
+				if len(copies[j]) > 1 {
+					g = group
+					group++
+				}
+				l.lateral = l.lateral || e.LateralM > 0
+				for _, n := range copies[j] {
+					l.extra = append(l.extra, extraEdge{kind: edgeEntrance, from: v, to: n, building: b.ID, entry: e, junction: e.Junction, group: g})
+				}
+			}
+		}
+	}
+	l.groups = group - firstGroup
+	// Turn edges and the handholes they and opened spans may need.
+	for j, jn := range net.Junctions {
+		var c junctionCharge
+		if turnAt[j] {
+			c.turns = true
+			for a := 0; a < len(copies[j]); a++ {
+				for b := a + 1; b < len(copies[j]); b++ {
+					c.edges = append(c.edges, len(net.Spans)+len(l.extra))
+					l.extra = append(l.extra, extraEdge{kind: edgeTurn, from: copies[j][a], to: copies[j][b], junction: jn.ID})
+				}
+			}
+		}
+		if s.JoinsNetwork(jn.ID) {
+			for _, i := range spansAt[j] {
+				if net.Spans[i].Status == geo.StatusProposed {
+					c.edges = append(c.edges, i)
+				}
+			}
+		}
+		if len(c.edges) > 0 {
+			c.junction = jn.ID
+			slices.Sort(c.edges)
+			l.charges = append(l.charges, c)
+		}
+	}
+	return l
+}
+
+// setEnd records node n as span i's end at junction j.
+func (l *layout) setEnd(net *geo.Network, i int, j string, n int) {
+	if net.Spans[i].From == j {
+		l.spanEnds[i][0] = n
+	}
+	if net.Spans[i].To == j {
+		l.spanEnds[i][1] = n
+	}
+}
+
+// inBuilding reports whether junction j is in building b: an entrance of it without a counted
+// lateral (geo.Meeting.Buildings), where a cable is inside the building.
+func inBuilding(net *geo.Network, j, b string) bool {
+	m, ok := net.MeetingAt(j)
+	return ok && slices.Contains(m.Buildings, b)
+}
