@@ -13,9 +13,10 @@ import (
 //   - Edge i is span i, for every span; the edges no span draws come after them.
 //   - A building with two or more entrances is a node of its own, the end of every demand to or
 //     from it, joined by an entrance edge to each entrance (as long as the entrance's counted
-//     lateral, if any). The node is transit-free (optimize.Problem.NoTransit), so no route goes
-//     in at one entrance and out at another through it; a diverse link's two legs leave by two
-//     entrance edges, that is by two entrances. A building with one entrance ends its demands
+//     lateral, if any). Unless routes may cross the building, the node is transit-free
+//     (optimize.Problem.NoTransit), so no route goes in at one entrance and out at another
+//     through it; a diverse link's two legs leave by two entrance edges, that is by two
+//     entrances. A building with one entrance ends its demands
 //     at the entrance's junction, as before.
 //   - Routes may pass through a building only where the campus allows it (geo.Transit: a
 //     pathway drawn inside it, or its transit property). Where it does not, an entrance in the
@@ -195,7 +196,8 @@ func newLayout(s *site.Site, firstGroup int) *layout {
 		default:
 			first := net.Junctions[jIndex[es[0].Junction]].Point
 			v := add(-1, "building "+b.ID, [2]float64{first[0], first[1]})
-			l.noTransit = append(l.noTransit, true)
+			// A building routes may cross joins its entrances; any other is only an end.
+			l.noTransit = append(l.noTransit, !allows(b.ID))
 			l.end[b.ID] = v
 			for _, e := range es {
 				j := jIndex[e.Junction]

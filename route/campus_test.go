@@ -1,0 +1,140 @@
+package route_test
+
+import (
+	"fmt"
+	"slices"
+	"strings"
+	"testing"
+
+	"spanwright/route/internal/testplan"
+	"spanwright/route/internal/testsite"
+	"spanwright/route/plan"
+	"spanwright/route/routing"
+)
+
+// Campuses drawn the way facilities GIS draws them (issue 13), on the pull grid of package
+// testsite (metres, invented place): each test builds one and checks the property it proves.
+
+// duct is a duct pathway through the given grid points, as a GeoJSON feature.
+func duct(id string, pts ...float64) string {
+	var c []string
+	for i := 0; i+1 < len(pts); i += 2 {
+		c = append(c, fmt.Sprintf("[%.7f,%.7f]", testsite.X(pts[i]), testsite.Y(pts[i+1])))
+	}
+	return fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":%q,"type":"duct"},"geometry":{"type":"LineString","coordinates":[%s]}}`, id, strings.Join(c, ","))
+}
+
+// handhole is a handhole structure at a grid point.
+func handhole(id string, x, y float64) string {
+	return fmt.Sprintf(`{"type":"Feature","properties":{"kind":"structure","id":%q,"type":"handhole"},"geometry":{"type":"Point","coordinates":[%.7f,%.7f]}}`,
+		id, testsite.X(x), testsite.Y(y))
+}
+
+func collection(features ...string) string {
+	return `{"type":"FeatureCollection","features":[` + strings.Join(features, ",") + `]}`
+}
+
+func diverse(to string) func(p *plan.Plan) {
+	return func(p *plan.Plan) {
+		p.Links = append(p.Links, plan.LinkSpec{To: to, Redundancy: plan.RedundancyDiverse})
+	}
+}
+
+// TestTwoEntrancesDiverse: B has two laterals from different streets (y = 0 and y = 100),
+// each ending inside its footprint; so has the hub A. The diverse link's two legs enter B by
+// different entrances and A by different entrances (physically diverse entry: TIA-569
+// recommends diverse entrance pathways for critical buildings, from memory).
+func TestTwoEntrancesDiverse(t *testing.T) {
+	t.Parallel()
+	campus := collection(testsite.Box("A", "mc", 50, 50), testsite.Box("B", "", 250, 50),
+		duct("S", 0, 0, 50, 0, 250, 0, 300, 0), duct("N", 0, 100, 50, 100, 250, 100, 300, 100),
+		duct("LA1", 50, 0, 50, 45), duct("LA2", 50, 100, 50, 55), duct("LB1", 250, 0, 250, 45), duct("LB2", 250, 100, 250, 55),
+		handhole("H1", 50, 0), handhole("H2", 50, 100), handhole("H3", 250, 0), handhole("H4", 250, 100))
+	r, err := testplan.PullSolveJSON(t, campus, diverse("B"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var legs []routing.Leg
+	for _, l := range r.Legs {
+		if l.Link.To == "B" {
+			legs = append(legs, l)
+		}
+	}
+	if len(legs) != 2 || !legs[0].Feasible || !legs[1].Feasible {
+		t.Fatalf("A-B legs: %+v", legs)
+	}
+	if legs[0].EntranceTo == "" || legs[0].EntranceTo == legs[1].EntranceTo || legs[0].EntranceFrom == legs[1].EntranceFrom {
+		t.Errorf("entrances: primary %s/%s, diverse %s/%s; want two different at each building",
+			legs[0].EntranceTo, legs[0].EntranceFrom, legs[1].EntranceTo, legs[1].EntranceFrom)
+	}
+	if len(r.Handholes) != 0 {
+		t.Errorf("handholes added: %+v, want none (every turn is at a handhole)", r.Handholes)
+	}
+}
+
+// TestTransitOnlyWhereMarked: D is joined to the hub A only by ducts into and out of C's
+// basement. Unmarked, C may not be crossed: D's leg is infeasible and its reason names C and
+// what to do; marked transit: true, the leg crosses C and says so.
+func TestTransitOnlyWhereMarked(t *testing.T) {
+	t.Parallel()
+	for _, marked := range []bool{false, true} {
+		c := testsite.Box("C", "", 150, 25)
+		if marked {
+			c = strings.Replace(c, `"id":"C"`, `"id":"C","transit":true`, 1)
+		}
+		campus := collection(testsite.Box("A", "mc", 50, 25), c, testsite.Box("D", "", 250, 25),
+			duct("D1", 55, 25, 145, 25), duct("D2", 155, 25, 245, 25))
+		r, err := testplan.PullSolveJSON(t, campus, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		var ad *routing.Leg
+		for i := range r.Legs {
+			if r.Legs[i].Link.To == "D" {
+				ad = &r.Legs[i]
+			}
+		}
+		switch {
+		case ad == nil:
+			t.Fatalf("marked %v: no leg to D", marked)
+		case !marked && (ad.Feasible || !strings.HasPrefix(ad.Reason, "building D reaches A only through C, which routes may not cross")):
+			t.Errorf("unmarked: leg to D feasible %v, reason %q", ad.Feasible, ad.Reason)
+		case marked && (!ad.Feasible || !slices.Equal(ad.Crosses, []string{"C"})):
+			t.Errorf("marked: leg to D feasible %v (%s), crosses %q; want feasible through C", ad.Feasible, ad.Reason, ad.Crosses)
+		}
+		if r.Infeasible() == nil == !marked {
+			t.Errorf("marked %v: Infeasible() = %v", marked, r.Infeasible())
+		}
+	}
+}
+
+// TestTurnNeedsHandhole: A's and B's laterals tee off street duct S where no structure is.
+// A cable cannot turn from one duct into another there (common practice, no published
+// source), so the route adds a handhole at each tee it turns at: in the optimizer's cost, the
+// bill and the leg's Turns. With a handhole drawn at A's tee, only B's is added.
+func TestTurnNeedsHandhole(t *testing.T) {
+	t.Parallel()
+	for _, drawn := range []bool{false, true} {
+		f := []string{testsite.Box("A", "mc", 50, 25), testsite.Box("B", "", 250, 25),
+			duct("S", 0, 0, 50, 0, 250, 0, 300, 0), duct("LA", 50, 0, 50, 20), duct("LB", 250, 0, 250, 20)}
+		want := 2
+		if drawn {
+			f = append(f, handhole("HA", 50, 0))
+			want = 1
+		}
+		r, err := testplan.PullSolveJSON(t, collection(f...), nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		l := r.Legs[0]
+		if !l.Feasible || len(l.Turns) != want || len(r.Handholes) != want || r.Handholes[0].Joins {
+			t.Fatalf("drawn %v: feasible %v, turns %q, handholes %+v; want %d turn handholes", drawn, l.Feasible, l.Turns, r.Handholes, want)
+		}
+		if got := testplan.BOMQty(r.Estimate.BOM, "handhole where a route turns between pathways"); got != float64(want) {
+			t.Errorf("drawn %v: bill has %v turn handholes, want %d", drawn, got, want)
+		}
+		if len(r.Estimate.Construction.TurnJunctions) != want {
+			t.Errorf("drawn %v: construction lists %q", drawn, r.Estimate.Construction.TurnJunctions)
+		}
+	}
+}
