@@ -147,6 +147,25 @@ func TestPayloadPlan(t *testing.T) {
 		}
 	}
 
+	// The entrance used at each end is named after its building (geo.Entry: building id, ":",
+	// number) and neutralised as the building's id is: the same leading quote, the same
+	// code points.
+	recs, err := csv.NewReader(strings.NewReader(links)).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	col := map[string]int{}
+	for i, h := range recs[0] {
+		col[h] = i
+	}
+	for _, rec := range recs[1:] {
+		for _, end := range []string{"from", "to"} {
+			if e := rec[col[end+"_entrance"]]; e != "" && !strings.HasPrefix(e, rec[col[end]]+":") {
+				t.Errorf("links.csv %s: %s_entrance %q is not its building %q neutralised alike", rec[0], end, e, rec[col[end]])
+			}
+		}
+	}
+
 	if bom := string(read("bom.csv")); !strings.Contains(bom, "\ntotal,'=1+2 <U+202E> <U+001B>[1m,,,,") {
 		t.Errorf("bom.csv: the total row's label is not neutralised:\n%s", bom)
 	}
@@ -188,7 +207,10 @@ func TestPayloadPlan(t *testing.T) {
 			t.Errorf("report.html holds %q unescaped", bad)
 		}
 	}
-	for _, want := range []string{"&lt;script&gt;alert(1)&lt;/script&gt;|*x*`y`", "B&lt;U+202E&gt;evil&lt;U+2066&gt;", "&lt;U+001B&gt;[31mRED"} {
+	for _, want := range []string{"&lt;script&gt;alert(1)&lt;/script&gt;|*x*`y`", "B&lt;U+202E&gt;evil&lt;U+2066&gt;", "&lt;U+001B&gt;[31mRED",
+		// the map's entrance marks name each entrance after its building
+		"<title>&lt;script&gt;alert(1)&lt;/script&gt;|*x*`y`:1: entrance of &lt;script&gt;alert(1)&lt;/script&gt;|*x*`y` (",
+		"<title>B&lt;U+202E&gt;evil&lt;U+2066&gt;:1: entrance of B&lt;U+202E&gt;evil&lt;U+2066&gt; ("} {
 		if !strings.Contains(page, want) {
 			t.Errorf("report.html lacks %q", want)
 		}

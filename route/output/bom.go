@@ -12,6 +12,7 @@ import (
 	"spanwright/media/install"
 	"spanwright/route"
 	"spanwright/route/escape"
+	"spanwright/route/routing"
 	"spanwright/route/workbook"
 )
 
@@ -149,7 +150,9 @@ func bomXLSX(ctx context.Context, r *route.Result, opt WriteOptions) ([]byte, er
 		workbook.Column{Name: "structures passed"}, workbook.Column{Name: "cable bought", Unit: u.length},
 		workbook.Column{Name: "reels"}, workbook.Column{Name: "mid-span splices"}, workbook.Column{Name: "pull sections"},
 		workbook.Column{Name: "highest pull", Unit: u.force}, workbook.Column{Name: "rated pull", Unit: u.force},
-		workbook.Column{Name: "model cost", Unit: cur}, workbook.Column{Name: "feasible"}, workbook.Column{Name: "note"})
+		workbook.Column{Name: "model cost", Unit: cur}, workbook.Column{Name: "feasible"}, workbook.Column{Name: "note"},
+		workbook.Column{Name: "from entrance"}, workbook.Column{Name: "to entrance"}, workbook.Column{Name: "buildings crossed"},
+		workbook.Column{Name: "turns at added handholes"})
 	links.Filter = true
 	bom := wb.AddSheet("bill of materials", workbook.Column{Name: "category"}, workbook.Column{Name: "item"},
 		workbook.Column{Name: "unit"}, workbook.Column{Name: "quantity"}, workbook.Column{Name: "unit price", Unit: cur},
@@ -278,7 +281,7 @@ func bomXLSX(ctx context.Context, r *route.Result, opt WriteOptions) ([]byte, er
 		if !l.Feasible {
 			cells = append(cells, make([]workbook.Cell, 16)...)
 			cells = append(cells, workbook.Cents(l.Cost.TotalCents()), workbook.Bool(false), workbook.Text(l.Reason))
-			links.Append(cells...)
+			links.Append(append(cells, passage(l)...)...)
 			continue
 		}
 		hi := hiOf[i]
@@ -289,7 +292,7 @@ func bomXLSX(ctx context.Context, r *route.Result, opt WriteOptions) ([]byte, er
 			workbook.Int(int64(t.Structures)), workbook.Number(u.m(t.LengthM), 1), workbook.Int(int64(t.Reels)),
 			workbook.Int(int64(t.Joins)), workbook.Int(int64(pullsOf[i])), workbook.Number(u.n(hi), 1), workbook.Number(u.n(rated), 1),
 			workbook.Cents(l.Cost.TotalCents()), workbook.Bool(true), workbook.Text(l.Reason))
-		links.Append(cells...)
+		links.Append(append(cells, passage(l)...)...)
 	}
 	for _, p := range r.Estimate.Pulls {
 		l := &r.Legs[p.Leg]
@@ -329,6 +332,17 @@ func bomXLSX(ctx context.Context, r *route.Result, opt WriteOptions) ([]byte, er
 		}
 	}
 	return wb.BytesContext(ctx)
+}
+
+// passage is the links sheet's last cells of a leg, as text: links.csv's last columns (see
+// passageText).
+func passage(l *routing.Leg) []workbook.Cell {
+	texts := passageText(l)
+	cells := make([]workbook.Cell, len(texts))
+	for i, x := range texts {
+		cells[i] = workbook.Text(x)
+	}
+	return cells
 }
 
 // odsHeader names the duct fill sheet's diameters column: the cables', or the innerducts'

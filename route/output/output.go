@@ -118,6 +118,14 @@ func round2(x float64) float64 {
 	return v
 }
 
+// LegRoute is what a leg's line is drawn from: the served building (Link.To), the leg's steps
+// and the cross-connect (Link.From), without properties. routes.geojson and the report's map
+// both draw legs by it.
+func LegRoute(l *routing.Leg) geo.RouteFeature {
+	return geo.RouteFeature{FromBuilding: l.Link.To, ToBuilding: l.Link.From,
+		FromEntrance: l.EntranceTo, ToEntrance: l.EntranceFrom, Steps: l.Steps}
+}
+
 func routesGeoJSON(ctx context.Context, r *route.Result) ([]byte, error) {
 	var feats []geo.RouteFeature
 	for i := range r.Legs {
@@ -143,6 +151,12 @@ func routesGeoJSON(ctx context.Context, r *route.Result) ([]byte, error) {
 			"strands":      l.StrandsCable,
 			"reason":       l.Explain(),
 			"cost_cents":   l.Cost.TotalCents(),
+			// The entrances used at each end, the buildings crossed and the junctions turned
+			// at, in travel order (issue 13); "" and [] until the optimizer fills them.
+			"from_entrance": l.EntranceFrom,
+			"to_entrance":   l.EntranceTo,
+			"crosses":       append([]string{}, l.Crosses...),
+			"turns":         append([]string{}, l.Turns...),
 		}
 		for _, nm := range routing.Wavelengths {
 			if x, ok := l.LossAt(nm); ok {
@@ -153,8 +167,9 @@ func routesGeoJSON(ctx context.Context, r *route.Result) ([]byte, error) {
 			props["limit_db"] = round2(w.LimitDB)
 			props["margin_db"] = round2(w.MarginDB)
 		}
-		feats = append(feats, geo.RouteFeature{FromBuilding: l.Link.To, ToBuilding: l.Link.From,
-			FromEntrance: l.EntranceTo, ToEntrance: l.EntranceFrom, Steps: l.Steps, Props: props})
+		f := LegRoute(l)
+		f.Props = props
+		feats = append(feats, f)
 	}
 	var buf bytes.Buffer
 	if err := r.Site.Net.WriteRoutesContext(ctx, &buf, feats); err != nil {
@@ -182,6 +197,8 @@ func linksCSV(r *route.Result, opt WriteOptions) ([]byte, error) {
 		cur = "cents"
 	}
 	head = append(head, "limit_db", "margin_db", "cost_"+cur, "cable_"+cur, "labour_"+cur, "construction_"+cur, "optics_"+cur, "reason")
+	// Appended after reason, so that no column before them moves.
+	head = append(head, passageHead...)
 	w.Write(head)
 	db := func(x float64) string { return strconv.FormatFloat(x, 'f', 2, 64) }
 	for i := range r.Legs {
@@ -211,12 +228,24 @@ func linksCSV(r *route.Result, opt WriteOptions) ([]byte, error) {
 		c := l.Cost
 		row = append(row, media.FormatCents(c.TotalCents()), media.FormatCents(c.CableCents), media.FormatCents(c.LabourCents),
 			media.FormatCents(c.ConstructionCents), media.FormatCents(c.OpticsCents), l.Explain())
-		w.Write(row)
+		w.Write(append(row, passageText(l)...))
 	}
 	if err := w.Flush(); err != nil {
 		return nil, err
 	}
 	return buf.Bytes(), nil
+}
+
+// passageHead names links.csv's columns of passageText.
+var passageHead = []string{"from_entrance", "to_entrance", "crosses", "turns"}
+
+// passageText is how a leg passes the campus, as the last columns of links.csv and of the
+// workbook's links sheet: the entrance (a geo.Entry id) it uses at its from building (the
+// cross-connect) and at its to building, the buildings it passes through and the junctions
+// where it turns between pathways at a handhole the plan adds, each list in travel order with
+// its ids separated by spaces, as the pathways column.
+func passageText(l *routing.Leg) []string {
+	return []string{l.EntranceFrom, l.EntranceTo, strings.Join(l.Crosses, " "), strings.Join(l.Turns, " ")}
 }
 
 // Summary is the machine-readable digest of a planned scenario (summary.json).
@@ -231,6 +260,11 @@ type Summary struct {
 	NewTrenchM   float64 `json:"new_trench_m"`    // new civil work, trenched or bored: opened pathways and trenches for added ducts
 	DiverseLinks int     `json:"diverse_links"`   // links with two disjoint feasible legs
 	DiverseShort int     `json:"diverse_missing"` // links that asked for a diverse route and did not get one
+	// CrossingLegs counts the feasible legs whose route passes through a building (in at one
+	// entrance, out at another); TurnHandholes the junctions, each once, where a feasible
+	// leg turns between pathways at a handhole the plan adds.
+	CrossingLegs  int `json:"crossing_legs"`
+	TurnHandholes int `json:"turn_handholes"`
 	// WorstMarginDB is the smallest loss margin of any feasible fibre leg; null when none.
 	WorstMarginDB *float64       `json:"worst_margin_db"`
 	MediaMix      map[string]int `json:"media_mix"` // feasible legs per medium
@@ -302,6 +336,9 @@ func Summarize(r *route.Result) Summary {
 		}
 		feasibleLegs[l.Link.ID]++
 		s.TotalRouteM += l.RouteM
+		if len(l.Crosses) > 0 {
+			s.CrossingLegs++
+		}
 		if l.Medium != "" {
 			s.MediaMix[l.Medium]++
 		}
@@ -309,6 +346,9 @@ func Summarize(r *route.Result) Summary {
 			m := round2(l.WorstMarginDB)
 			s.WorstMarginDB = &m
 		}
+	}
+	if r.Estimate != nil {
+		s.TurnHandholes = len(r.Estimate.Construction.TurnJunctions) // the bill's count, each once
 	}
 	s.ModelCents += r.ExtraCents
 	s.TotalCents = s.ModelCents
@@ -421,6 +461,10 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 			parts = append(parts, t(k)+" "+length(byCons[k]))
 		}
 		fmt.Fprintf(w, "cable bought: %s (%s in all, %d mid-span splices)\n", strings.Join(parts, ", "), length(s.CableM), s.MidSpanSplices)
+	}
+	if s.CrossingLegs > 0 || s.TurnHandholes > 0 {
+		fmt.Fprintf(w, "legs through a building: %d; handholes to add where a route turns between pathways: %d (see links.csv)\n",
+			s.CrossingLegs, s.TurnHandholes)
 	}
 	e := r.Estimate
 	if e == nil || e.BOM == nil {

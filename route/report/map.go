@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"html/template"
 	"sort"
+	"strconv"
 	"strings"
 
 	"spanwright/geo"
@@ -48,7 +49,7 @@ type routePath struct {
 
 type mark struct {
 	X, Y  string
-	Shape string // "circle", "square", "diamond"
+	Shape string // "circle", "square", "diamond", or "dot" (a building entrance)
 	Class string
 	Title string
 }
@@ -80,6 +81,9 @@ type mapView struct {
 	Laterals   []svgPath
 	Routes     []routePath
 	Structures []mark
+	Turns      []mark // handholes the plan adds where a route turns between pathways
+	Entrances  []mark // every way into every building, at its junction
+	Crossed    bool   // some building is drawn as one a route passes through
 	Scale      scaleBar
 	NorthX     string
 	NorthY     string
@@ -147,13 +151,15 @@ func buildMap(ctx context.Context, r *route.Result, opt Options, med map[string]
 			b.add(q[0], q[1])
 		}
 	}
+	for _, e := range net.Entrances {
+		for _, q := range e.Lateral {
+			b.add(q[0], q[1])
+		}
+	}
 	p := newProjection(b, mapWidthPx, mapMaxHeightPx, mapMarginPx)
 	m := mapView{W: num(p.widthPx), H: num(p.heightPx), Empty: !b.any}
 
-	roles := map[string]string{}
-	for _, bd := range c.Buildings {
-		roles[bd.ID] = bd.Role
-	}
+	ps := passagesOf(r)
 	for _, bd := range c.Buildings {
 		var d strings.Builder
 		var best xy
@@ -183,6 +189,11 @@ func buildMap(ctx context.Context, r *route.Result, opt Options, med map[string]
 		}
 		if role != "" {
 			title += " (" + role + ")"
+		}
+		if legs := ps.crossedBy[bd.ID]; len(legs) > 0 {
+			cls += " crossed"
+			m.Crossed = true
+			title += "; routes pass through it: " + strings.Join(legs, ", ")
 		}
 		m.Buildings = append(m.Buildings, buildingShape{
 			svgPath: svgPath{D: d.String(), Class: cls, Title: title},
@@ -228,10 +239,22 @@ func buildMap(ctx context.Context, r *route.Result, opt Options, med map[string]
 		}
 		m.Pathways = append(m.Pathways, svgPath{D: d, Class: pathwayClass(s, opened[s.ID]), Title: title})
 	}
+	drawn := map[[2]string]bool{}
 	for _, a := range net.Access {
+		drawn[[2]string{a.Building, a.Junction}] = true
 		if d := pathD(p.line(coords(a.Lateral))); d != "" {
 			m.Laterals = append(m.Laterals, svgPath{D: d, Class: "lateral",
 				Title: fmt.Sprintf("lateral to %s, %s", a.Building, opt.lengthU(a.LateralM))})
+		}
+	}
+	// The laterals of the other entrances.
+	for _, e := range net.Entrances {
+		if drawn[[2]string{e.Building, e.Junction}] {
+			continue
+		}
+		if d := pathD(p.line(coords(e.Lateral))); d != "" {
+			m.Laterals = append(m.Laterals, svgPath{D: d, Class: "lateral",
+				Title: fmt.Sprintf("lateral to %s (entrance %s), %s", e.Building, e.ID, opt.lengthU(e.LateralM))})
 		}
 	}
 	for i := range r.Legs {
@@ -242,7 +265,7 @@ func buildMap(ctx context.Context, r *route.Result, opt Options, med map[string]
 		if !l.Feasible {
 			continue
 		}
-		ls, err := net.RouteLine(geo.RouteFeature{FromBuilding: l.Link.To, ToBuilding: l.Link.From, FromEntrance: l.EntranceTo, ToEntrance: l.EntranceFrom, Steps: l.Steps})
+		ls, err := net.RouteLine(output.LegRoute(l))
 		if err != nil {
 			return mapView{}, fmt.Errorf("report: map of %s %s: %w", l.Link.ID, l.Name, err)
 		}
@@ -269,9 +292,88 @@ func buildMap(ctx context.Context, r *route.Result, opt Options, med map[string]
 		m.Structures = append(m.Structures, mark{X: num(q.X), Y: num(q.Y), Shape: structureShape(s.Type), Class: "st",
 			Title: s.ID + ": " + s.Type})
 	}
+	for _, id := range ps.turnIDs {
+		j, ok := net.Junction(id)
+		if !ok {
+			continue // a junction the network does not draw: the legs table still names it
+		}
+		q := p.at(j.Point[0], j.Point[1])
+		m.Turns = append(m.Turns, mark{X: num(q.X), Y: num(q.Y), Shape: "square", Class: "st turn",
+			Title: id + ": handhole to add, where a route turns between pathways (" + strings.Join(ps.turns[id], ", ") + ")"})
+	}
+	for _, e := range net.Entrances {
+		j, ok := net.Junction(e.Junction)
+		if !ok {
+			continue
+		}
+		q := p.at(j.Point[0], j.Point[1])
+		cls, title := "ent", e.ID+": entrance of "+e.Building+" ("+entranceWay(e.Via)
+		if e.LateralM > 0 {
+			title += ", lateral " + opt.lengthU(e.LateralM)
+		}
+		title += ")"
+		if n := ps.entranceUse[e.ID]; n > 0 {
+			cls = "ent used"
+			title += ", used by " + strconv.Itoa(n) + " leg"
+			if n > 1 {
+				title += "s"
+			}
+		}
+		m.Entrances = append(m.Entrances, mark{X: num(q.X), Y: num(q.Y), Shape: "dot", Class: cls, Title: title})
+	}
 	m.Scale = newScaleBar(p, opt)
 	m.NorthX, m.NorthY = num(p.widthPx-mapMarginPx), num(p.heightPx-bandPx-8)
 	return m, nil
+}
+
+// passages is how the feasible legs pass the campus, for the map: the legs (link id and leg
+// name) that pass through each building, the junctions where a leg turns at a handhole the
+// plan adds (in id order) with the legs that turn there, and how many legs use each entrance.
+type passages struct {
+	crossedBy   map[string][]string
+	turns       map[string][]string
+	turnIDs     []string
+	entranceUse map[string]int
+}
+
+func passagesOf(r *route.Result) passages {
+	ps := passages{crossedBy: map[string][]string{}, turns: map[string][]string{}, entranceUse: map[string]int{}}
+	for i := range r.Legs {
+		l := &r.Legs[i]
+		if !l.Feasible {
+			continue
+		}
+		name := l.Link.ID + " " + l.Name
+		for _, b := range l.Crosses {
+			ps.crossedBy[b] = append(ps.crossedBy[b], name)
+		}
+		for _, j := range l.Turns {
+			if ps.turns[j] == nil {
+				ps.turnIDs = append(ps.turnIDs, j)
+			}
+			ps.turns[j] = append(ps.turns[j], name)
+		}
+		for _, e := range []string{l.EntranceFrom, l.EntranceTo} {
+			if e != "" {
+				ps.entranceUse[e]++
+			}
+		}
+	}
+	sort.Strings(ps.turnIDs)
+	return ps
+}
+
+// entranceWay says in words how an entrance joins its building (geo.Access.Via).
+func entranceWay(via string) string {
+	switch via {
+	case geo.ViaEntrance:
+		return "declared entrance"
+	case geo.ViaFootprint:
+		return "pathway end at the footprint"
+	case geo.ViaLateral:
+		return "lateral to the nearest pathway"
+	}
+	return via
 }
 
 // newScaleBar draws a bar of a round length near a fifth of the map's width, in four
@@ -334,20 +436,29 @@ func (m mapView) HTML() template.HTML {
 		}
 		w(` data-leg="`, t(r.Leg), `" data-medium="`, t(r.Medium), `"><title>`, t(r.Title), `</title></path>`)
 	}
-	w("</g>\n", `<g class="structures">`)
-	for _, s := range m.Structures {
-		title := `<title>` + t(s.Title) + `</title>`
-		x, y, cls := t(s.X), t(s.Y), t(s.Class)
-		switch s.Shape {
-		case "circle":
-			w(`<circle cx="`, x, `" cy="`, y, `" r="4.5" class="`, cls, `">`, title, `</circle>`)
-		case "square":
-			w(`<rect x="`, x, `" y="`, y, `" width="9" height="9" transform="translate(-4.5 -4.5)" class="`, cls, `">`, title, `</rect>`)
-		default:
-			w(`<path d="M0 -5.5L5.5 0L0 5.5L-5.5 0Z" transform="translate(`, x, " ", y, `)" class="`, cls, `">`, title, `</path>`)
+	w("</g>\n")
+	marks := func(group string, ms []mark) {
+		w(`<g class="`, t(group), `">`)
+		for _, s := range ms {
+			title := `<title>` + t(s.Title) + `</title>`
+			x, y, cls := t(s.X), t(s.Y), t(s.Class)
+			switch s.Shape {
+			case "circle":
+				w(`<circle cx="`, x, `" cy="`, y, `" r="4.5" class="`, cls, `">`, title, `</circle>`)
+			case "dot":
+				w(`<circle cx="`, x, `" cy="`, y, `" r="2.5" class="`, cls, `">`, title, `</circle>`)
+			case "square":
+				w(`<rect x="`, x, `" y="`, y, `" width="9" height="9" transform="translate(-4.5 -4.5)" class="`, cls, `">`, title, `</rect>`)
+			default:
+				w(`<path d="M0 -5.5L5.5 0L0 5.5L-5.5 0Z" transform="translate(`, x, " ", y, `)" class="`, cls, `">`, title, `</path>`)
+			}
 		}
+		w("</g>\n")
 	}
-	w("</g>\n", `<g class="labels">`)
+	marks("structures", m.Structures)
+	marks("turns", m.Turns)
+	marks("entrances", m.Entrances)
+	w(`<g class="labels">`)
 	for _, bd := range m.Buildings {
 		w(`<text x="`, t(bd.LabelX), `" y="`, t(bd.LabelY), `" class="`, t(bd.LabelCls), `" text-anchor="middle">`, t(bd.ID), `</text>`)
 	}

@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"html/template"
 	"math"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -88,6 +89,11 @@ type legRow struct {
 	Reason            string
 	Rejected          []string
 	Pathways          string
+	// EntranceFrom and EntranceTo are the entrances used at From and To; Crosses the
+	// buildings the route passes through and Turns the junctions where it turns at a
+	// handhole the plan adds, in travel order.
+	EntranceFrom, EntranceTo string
+	Crosses, Turns           []string
 }
 
 type bar struct {
@@ -216,6 +222,7 @@ type legend struct {
 	Pathways   []legendItem
 	Media      []legendItem
 	Structures []legendItem
+	Crossed    bool // a building some route passes through
 }
 
 // Plan renders the report of a planned scenario as one self-contained HTML page. It fails
@@ -400,7 +407,7 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 		return nil, err
 	}
 	v.Map = m
-	v.Legend = legendOf(r, med, order)
+	v.Legend = legendOf(r, med, order, m)
 	return v, nil
 }
 
@@ -523,7 +530,8 @@ func legRows(r *route.Result, opt Options, med map[string]mediumInfo, names map[
 			FromName: names[l.Link.From], ToName: names[l.Link.To], Rate: l.Link.Rate, Feasible: l.Feasible,
 			Application: l.Application, Construction: l.ConstructionText(), Strands: strconv.Itoa(l.StrandsCable),
 			Route: opt.length(l.RouteM), Lat: opt.length(l.LateralM), Riser: opt.length(l.RiserM),
-			Cost: money(l.Cost.TotalCents())}
+			Cost: money(l.Cost.TotalCents()), EntranceFrom: l.EntranceFrom, EntranceTo: l.EntranceTo,
+			Crosses: l.Crosses, Turns: l.Turns}
 		if l.Link.FutureRate != "" {
 			row.Rate += " → " + l.Link.FutureRate
 		}
@@ -649,8 +657,9 @@ func fillRows(r *route.Result) ([]fillRow, int, int) {
 }
 
 // legendOf lists what the map shows: the pathway types and statuses present, the media of
-// the feasible legs, the structure types present.
-func legendOf(r *route.Result, med map[string]mediumInfo, order []string) legend {
+// the feasible legs, the structure types present, handholes to add at turns, entrances and
+// buildings routes pass through when m draws them.
+func legendOf(r *route.Result, med map[string]mediumInfo, order []string, m mapView) legend {
 	var lg legend
 	net := r.Site.Net
 	opened := map[string]bool{}
@@ -709,8 +718,18 @@ func legendOf(r *route.Result, med map[string]mediumInfo, order []string) legend
 	}
 	sort.Strings(ts)
 	for _, t := range ts {
-		lg.Structures = append(lg.Structures, legendItem{Shape: structureShape(t), Label: t})
+		lg.Structures = append(lg.Structures, legendItem{Shape: structureShape(t), Class: "st", Label: t})
 	}
+	if len(m.Turns) > 0 {
+		lg.Structures = append(lg.Structures, legendItem{Shape: "square", Class: "st turn", Label: "handhole to add where a route turns between pathways"})
+	}
+	if len(m.Entrances) > 0 {
+		lg.Structures = append(lg.Structures, legendItem{Shape: "dot", Class: "ent", Label: "building entrance"})
+	}
+	if slices.ContainsFunc(m.Entrances, func(e mark) bool { return e.Class == "ent used" }) {
+		lg.Structures = append(lg.Structures, legendItem{Shape: "dot", Class: "ent used", Label: "entrance a leg uses"})
+	}
+	lg.Crossed = m.Crossed
 	return lg
 }
 
@@ -922,6 +941,9 @@ func (l legRow) HTML(span int) template.HTML {
 	if l.FromName != "" || l.ToName != "" {
 		p.w(`<br><span class="small">`, t(l.FromName+" → "+l.ToName), "</span>")
 	}
+	if l.EntranceFrom != "" || l.EntranceTo != "" {
+		p.w(`<br><span class="small entrances">entrances `, t(l.EntranceFrom+" → "+l.EntranceTo), "</span>")
+	}
 	p.w("</td>\n")
 	td(&p, "", l.Rate)
 	p.w("\n<td>")
@@ -969,6 +991,12 @@ func (l legRow) HTML(span int) template.HTML {
 	}
 	if l.Pathways != "" {
 		p.w(`<br><span class="small">Via `, t(l.Pathways), "</span>")
+	}
+	if len(l.Crosses) > 0 {
+		p.w(`<br><span class="small crosses">Passes through buildings `, t(strings.Join(l.Crosses, ", ")), "</span>")
+	}
+	if len(l.Turns) > 0 {
+		p.w(`<br><span class="small turns">Turns between pathways at `, t(strings.Join(l.Turns, ", ")), ", where a handhole is added</span>")
 	}
 	p.w("</td></tr></tbody>\n")
 	return p.html()

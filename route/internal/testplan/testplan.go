@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"encoding/csv"
+	"slices"
 	"spanwright/geo"
 	"spanwright/media"
 	"spanwright/route"
@@ -110,4 +111,38 @@ func ReadCSV(t *testing.T, data []byte) [][]string {
 		t.Fatal(err)
 	}
 	return rows
+}
+
+// PassageResult plans the pull campus (testsite.PullCampus) with its ids changed by ids (nil
+// keeps them), then gives the leg hub–C by hand what the optimizer will give a leg that
+// passes the campus: the entrances used at both ends (the network's own entries), a building
+// it passes through (b) and two junctions where it turns at an added handhole: J0002, where
+// the proposed duct P leaves D, and turn. The leg hub–B keeps them empty. Ids are given as the
+// campus has them after the change.
+func PassageResult(t *testing.T, ids *strings.Replacer, hub, b, c, turn string) *route.Result {
+	t.Helper()
+	campus := testsite.PullCampus(100, 1)
+	if ids != nil {
+		campus = ids.Replace(campus)
+	}
+	r, err := PullSolveJSON(t, campus, func(p *plan.Plan) { p.Hub = hub })
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, leg := LegOf(t, r, hub+"-"+c)
+	entry := func(building string) string {
+		for _, e := range r.Site.Net.Entrances {
+			if e.Building == building {
+				return e.ID
+			}
+		}
+		t.Fatalf("building %q has no entrance", building)
+		return ""
+	}
+	leg.EntranceFrom, leg.EntranceTo = entry(hub), entry(c)
+	leg.Crosses = []string{b}
+	leg.Turns = []string{"J0002", turn}
+	// The bill's turn handholes, as the routing would give them for these turns.
+	r.Estimate.Construction.TurnJunctions = slices.Compact(slices.Sorted(slices.Values(leg.Turns)))
+	return r
 }
