@@ -138,3 +138,40 @@ func TestTurnNeedsHandhole(t *testing.T) {
 		}
 	}
 }
+
+// TestOneTrenchTwoDucts: two ducts drawn 2 m apart look disjoint, but lie in one trench
+// (group TR-1): a backhoe cuts both, so a diverse link may not use one for each leg (the
+// shared-risk group, as TIA-758 and common practice ask of diverse routes, from memory).
+// Without the group the two ducts give the link its two legs.
+func TestOneTrenchTwoDucts(t *testing.T) {
+	t.Parallel()
+	for _, grouped := range []bool{false, true} {
+		d1, d2 := duct("S1", 0, 0, 45, 0, 245, 0, 300, 0), duct("S2", 0, 2, 55, 2, 255, 2, 300, 2)
+		if grouped {
+			d1 = strings.Replace(d1, `"type":"duct"`, `"type":"duct","group":"TR-1"`, 1)
+			d2 = strings.Replace(d2, `"type":"duct"`, `"type":"duct","group":"TR-1"`, 1)
+		}
+		campus := collection(testsite.Box("A", "mc", 50, 50), testsite.Box("B", "", 250, 50), d1, d2,
+			// Each lateral crosses the other duct without a vertex there: not joined (geo warns).
+			duct("LA1", 45, 0, 45, 45), duct("LA2", 55, 2, 55, 45), duct("LB1", 245, 0, 245, 45), duct("LB2", 255, 2, 255, 45),
+			handhole("H1", 45, 0), handhole("H2", 55, 2), handhole("H3", 245, 0), handhole("H4", 255, 2))
+		r, err := testplan.PullSolveJSON(t, campus, diverse("B"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		var d *routing.Leg
+		for i := range r.Legs {
+			if r.Legs[i].Link.To == "B" && r.Legs[i].Name == routing.LegDiverse {
+				d = &r.Legs[i]
+			}
+		}
+		switch {
+		case d == nil:
+			t.Fatalf("grouped %v: no diverse leg", grouped)
+		case grouped && (d.Feasible || !strings.Contains(d.Reason, "shared-risk group TR-1")):
+			t.Errorf("grouped: diverse leg feasible %v, reason %q; want infeasible naming TR-1", d.Feasible, d.Reason)
+		case !grouped && !d.Feasible:
+			t.Errorf("not grouped: diverse leg infeasible: %s", d.Reason)
+		}
+	}
+}
