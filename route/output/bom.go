@@ -280,7 +280,7 @@ func bomXLSX(ctx context.Context, r *route.Result, opt WriteOptions) ([]byte, er
 			workbook.Text(l.Link.Rate)}
 		if !l.Feasible {
 			cells = append(cells, make([]workbook.Cell, 16)...)
-			cells = append(cells, workbook.Cents(l.Cost.TotalCents()), workbook.Bool(false), workbook.Text(l.Reason))
+			cells = append(cells, workbook.Cents(l.Cost.TotalCents()), workbook.Bool(false), workbook.Text(InUnits(opt, l.Reason)))
 			links.Append(append(cells, passage(l)...)...)
 			continue
 		}
@@ -291,7 +291,7 @@ func bomXLSX(ctx context.Context, r *route.Result, opt WriteOptions) ([]byte, er
 			workbook.Number(u.m(l.RouteM), 1), workbook.Number(u.m(l.RiserM), 1), workbook.Number(u.m(t.SlackM()), 1),
 			workbook.Int(int64(t.Structures)), workbook.Number(u.m(t.LengthM), 1), workbook.Int(int64(t.Reels)),
 			workbook.Int(int64(t.Joins)), workbook.Int(int64(pullsOf[i])), workbook.Number(u.n(hi), 1), workbook.Number(u.n(rated), 1),
-			workbook.Cents(l.Cost.TotalCents()), workbook.Bool(true), workbook.Text(l.Reason))
+			workbook.Cents(l.Cost.TotalCents()), workbook.Bool(true), workbook.Text(InUnits(opt, l.Reason)))
 		links.Append(append(cells, passage(l)...)...)
 	}
 	for _, p := range r.Estimate.Pulls {

@@ -8,6 +8,7 @@ import (
 	"io"
 	"maps"
 	"math"
+	"regexp"
 	"slices"
 	"strconv"
 	"strings"
@@ -196,7 +197,7 @@ func linksCSV(r *route.Result, opt WriteOptions) ([]byte, error) {
 	if cur == "" {
 		cur = "cents"
 	}
-	head = append(head, "limit_db", "margin_db", "cost_"+cur, "cable_"+cur, "labour_"+cur, "construction_"+cur, "optics_"+cur, "reason")
+	head = append(head, "limit_db", "margin_db", "cost_"+cur, "cable_"+cur, "labour_"+cur, "construction_"+cur, "terminations_transceivers_"+cur, "reason")
 	// Appended after reason, so that no column before them moves.
 	head = append(head, passageHead...)
 	w.Write(head)
@@ -227,13 +228,36 @@ func linksCSV(r *route.Result, opt WriteOptions) ([]byte, error) {
 		}
 		c := l.Cost
 		row = append(row, media.FormatCents(c.TotalCents()), media.FormatCents(c.CableCents), media.FormatCents(c.LabourCents),
-			media.FormatCents(c.ConstructionCents), media.FormatCents(c.OpticsCents), l.Explain())
+			media.FormatCents(c.ConstructionCents), media.FormatCents(c.OpticsCents), InUnits(opt, l.Explain()))
 		w.Write(append(row, passageText(l)...))
 	}
 	if err := w.Flush(); err != nil {
 		return nil, err
 	}
 	return buf.Bytes(), nil
+}
+
+// metresText finds a length in metres in a text of the rules ("a 247.41 m channel").
+var metresText = regexp.MustCompile(`(\d+(?:\.\d+)?) m\b`)
+
+// InUnits writes the lengths in metres of a reason from the rule engine in the run's units:
+// in feet, with as many decimals, when imperial (1 ft = 0.3048 m exactly).
+func InUnits(opt WriteOptions, text string) string {
+	if !opt.imperial() {
+		return text
+	}
+	return metresText.ReplaceAllStringFunc(text, func(m string) string {
+		num := strings.TrimSuffix(m, " m")
+		v, err := strconv.ParseFloat(num, 64)
+		if err != nil {
+			return m
+		}
+		dec := 0
+		if i := strings.IndexByte(num, '.'); i >= 0 {
+			dec = len(num) - i - 1
+		}
+		return strconv.FormatFloat(v*FtPerM, 'f', dec, 64) + " ft"
+	})
 }
 
 // passageHead names links.csv's columns of passageText.

@@ -5,6 +5,7 @@ import (
 	"context"
 	"encoding/csv"
 	"math"
+	"slices"
 	"spanwright/route/internal/testplan"
 	"spanwright/route/internal/testsite"
 	"spanwright/route/plan"
@@ -115,5 +116,32 @@ func TestImperialBOMMultipliesOut(t *testing.T) {
 	}
 	if n == 0 {
 		t.Fatal("no line in feet")
+	}
+}
+
+// TestReasonsInUnits: the rule engine's reasons give lengths in metres; an imperial run shows
+// them in feet, with as many decimals (1 ft = 0.3048 m exactly, by the 1959 international
+// agreement), and leaves wavelengths and everything else alone (issue 14, item 8).
+func TestReasonsInUnits(t *testing.T) {
+	t.Parallel()
+	in := "a 247.41 m channel; at most 15 m (50 ft) inside; loss at 1310 nm; 2 m."
+	const want = "a 811.71 ft channel; at most 49 ft (50 ft) inside; loss at 1310 nm; 7 ft."
+	if got := InUnits(WriteOptions{Units: UnitsImperial}, in); got != want {
+		t.Errorf("imperial:\n got %s\nwant %s", got, want)
+	}
+	if got := InUnits(WriteOptions{}, in); got != in {
+		t.Errorf("metric: %s", got)
+	}
+	r := testplan.DemoResult(t)
+	data, err := linksCSV(r, WriteOptions{Units: UnitsImperial})
+	if err != nil {
+		t.Fatal(err)
+	}
+	rows := testplan.ReadCSV(t, data)
+	reason := slices.Index(rows[0], "reason")
+	for _, row := range rows[1:] {
+		if m := metresText.FindString(row[reason]); m != "" {
+			t.Errorf("%s %s: imperial reason still says %q", row[0], row[1], m)
+		}
 	}
 }

@@ -542,12 +542,12 @@ func legRows(r *route.Result, opt Options, med map[string]mediumInfo, names map[
 			row.Pathways += p
 		}
 		if l.Feasible {
-			row.Reason = l.Choice
+			row.Reason = output.InUnits(output.WriteOptions{Units: opt.Units}, l.Choice)
 			for _, rj := range l.Rejected {
-				row.Rejected = append(row.Rejected, rj.Reason)
+				row.Rejected = append(row.Rejected, output.InUnits(output.WriteOptions{Units: opt.Units}, rj.Reason))
 			}
 		} else {
-			row.Reason = l.Reason
+			row.Reason = output.InUnits(output.WriteOptions{Units: opt.Units}, l.Reason)
 		}
 		if l.Medium != "" {
 			row.Medium, row.HasMedium = med[l.Medium], true
