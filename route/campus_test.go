@@ -1,6 +1,7 @@
 package route_test
 
 import (
+	"context"
 	"fmt"
 	"slices"
 	"strings"
@@ -8,6 +9,7 @@ import (
 
 	"spanwright/route/internal/testplan"
 	"spanwright/route/internal/testsite"
+	"spanwright/route/output"
 	"spanwright/route/plan"
 	"spanwright/route/routing"
 )
@@ -72,19 +74,32 @@ func TestTwoEntrancesDiverse(t *testing.T) {
 	}
 }
 
-// TestTransitOnlyWhereMarked: D is joined to the hub A only by ducts into and out of C's
-// basement. Unmarked, C may not be crossed: D's leg is infeasible and its reason names C and
-// what to do; marked transit: true, the leg crosses C and says so.
+// TestTransitOnlyWhereMarked: D is joined to the hub A only through C. Where ducts D1 and D2
+// meet at one point inside C, a route may pass there only when C is marked transit: true;
+// unmarked, D's leg is infeasible and its reason names C and what to do. Where D1 and D2 end
+// apart inside C, only a pathway drawn inside C joins them: a basement tunnel, which allows
+// the crossing without a mark. A crossing leg lists C.
 func TestTransitOnlyWhereMarked(t *testing.T) {
 	t.Parallel()
-	for _, marked := range []bool{false, true} {
+	for _, tc := range []struct {
+		name           string
+		marked, tunnel bool
+		ok             bool
+	}{
+		{"unmarked", false, false, false}, {"marked", true, false, true}, {"basement tunnel", false, true, true},
+	} {
 		c := testsite.Box("C", "", 150, 25)
-		if marked {
+		if tc.marked {
 			c = strings.Replace(c, `"id":"C"`, `"id":"C","transit":true`, 1)
 		}
-		campus := collection(testsite.Box("A", "mc", 50, 25), c, testsite.Box("D", "", 250, 25),
-			duct("D1", 55, 25, 145, 25), duct("D2", 155, 25, 245, 25))
-		r, err := testplan.PullSolveJSON(t, campus, nil)
+		f := []string{testsite.Box("A", "mc", 50, 25), c, testsite.Box("D", "", 250, 25)}
+		if tc.tunnel {
+			f = append(f, duct("D1", 55, 25, 145, 25), duct("D2", 155, 25, 245, 25),
+				strings.Replace(duct("T", 145, 25, 155, 25), `"type":"duct"`, `"type":"tunnel"`, 1))
+		} else {
+			f = append(f, duct("D1", 55, 25, 150, 25), duct("D2", 150, 25, 245, 25))
+		}
+		r, err := testplan.PullSolveJSON(t, collection(f...), nil)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -96,14 +111,18 @@ func TestTransitOnlyWhereMarked(t *testing.T) {
 		}
 		switch {
 		case ad == nil:
-			t.Fatalf("marked %v: no leg to D", marked)
-		case !marked && (ad.Feasible || !strings.HasPrefix(ad.Reason, "building D reaches A only through C, which routes may not cross")):
-			t.Errorf("unmarked: leg to D feasible %v, reason %q", ad.Feasible, ad.Reason)
-		case marked && (!ad.Feasible || !slices.Equal(ad.Crosses, []string{"C"})):
-			t.Errorf("marked: leg to D feasible %v (%s), crosses %q; want feasible through C", ad.Feasible, ad.Reason, ad.Crosses)
+			t.Fatalf("%s: no leg to D", tc.name)
+		case !tc.ok && (ad.Feasible || !strings.HasPrefix(ad.Reason, "building D reaches A only through C: a route crosses a building only along")):
+			t.Errorf("%s: leg to D feasible %v, reason %q", tc.name, ad.Feasible, ad.Reason)
+		case tc.ok && (!ad.Feasible || !slices.Equal(ad.Crosses, []string{"C"})):
+			t.Errorf("%s: leg to D feasible %v (%s), crosses %q; want feasible through C", tc.name, ad.Feasible, ad.Reason, ad.Crosses)
 		}
-		if r.Infeasible() == nil == !marked {
-			t.Errorf("marked %v: Infeasible() = %v", marked, r.Infeasible())
+		if (r.Infeasible() == nil) != tc.ok {
+			t.Errorf("%s: Infeasible() = %v", tc.name, r.Infeasible())
+		}
+		// Every output renders a crossing leg (its steps join up).
+		if _, err := output.Files(context.Background(), r, output.WriteOptions{}); err != nil {
+			t.Errorf("%s: outputs: %v", tc.name, err)
 		}
 	}
 }

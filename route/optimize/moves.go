@@ -180,6 +180,18 @@ func (sv *solver) closeSet(id int32, edges, users []int32, save int64) bool {
 	for _, e := range edges {
 		sv.forbid[e] = true
 	}
+	// A user the forbidden edges cut off would be left unrouted, which no plan cost repays: the
+	// move fails whatever the reroutes find, so it is not tried (a turn handhole at the tee of
+	// a building's only lateral is the usual case).
+	for _, d := range users {
+		if !sv.joined(int(d)) {
+			for _, e := range edges {
+				sv.forbid[e] = false
+			}
+			sv.failedClose[id] = sig
+			return false
+		}
+	}
 	olds := make([]choice, 0, len(users))
 	var done []int32
 	for _, d := range users {
@@ -839,4 +851,36 @@ func (sv *solver) kicks() {
 			break
 		}
 	}
+}
+
+// joined reports whether demand d's ends are joined by edges not forbidden, whatever else a
+// route must respect (transit-free nodes, flags, reach, capacity): a search finds no route
+// where this finds none.
+func (sv *solver) joined(d int) bool {
+	n := sv.net
+	src, dst := int32(sv.p.Demands[d].Source), int32(sv.p.Demands[d].Target)
+	if sv.joinSeen == nil {
+		sv.joinSeen = make([]uint32, n.nodes)
+	}
+	sv.joinStamp++
+	stamp := sv.joinStamp
+	queue := append(sv.joinQueue[:0], src)
+	sv.joinSeen[src] = stamp
+	found := false
+	for i := 0; i < len(queue) && !found; i++ {
+		v := queue[i]
+		for _, a := range n.adj[n.start[v]:n.start[v+1]] {
+			if sv.forbid[a.edge] || sv.joinSeen[a.to] == stamp {
+				continue
+			}
+			if a.to == dst {
+				found = true
+				break
+			}
+			sv.joinSeen[a.to] = stamp
+			queue = append(queue, a.to)
+		}
+	}
+	sv.joinQueue = queue
+	return found || src == dst
 }

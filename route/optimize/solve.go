@@ -196,6 +196,10 @@ type solver struct {
 	chTouch  []int32
 	chSelf   []int32
 	chSelfSt []uint32
+	// joinSeen, joinStamp and joinQueue are the scratch of joined.
+	joinSeen  []uint32
+	joinStamp uint32
+	joinQueue []int32
 }
 
 func newSolver(p *Problem, opt Settings) *solver {

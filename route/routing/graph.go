@@ -13,10 +13,9 @@ import (
 //   - Edge i is span i, for every span; the edges no span draws come after them.
 //   - A building with two or more entrances is a node of its own, the end of every demand to or
 //     from it, joined by an entrance edge to each entrance (as long as the entrance's counted
-//     lateral, if any). Unless routes may cross the building, the node is transit-free
-//     (optimize.Problem.NoTransit), so no route goes in at one entrance and out at another
-//     through it; a diverse link's two legs leave by two entrance edges, that is by two
-//     entrances. A building with one entrance ends its demands
+//     lateral, if any). The node is transit-free (optimize.Problem.NoTransit), so no route goes
+//     in at one entrance and out at another through it; a diverse link's two legs leave by two
+//     entrance edges, that is by two entrances. A building with one entrance ends its demands
 //     at the entrance's junction, as before.
 //   - Routes may pass through a building only where the campus allows it (geo.Transit: a
 //     pathway drawn inside it, or its transit property). Where it does not, an entrance in the
@@ -187,24 +186,38 @@ func newLayout(s *site.Site, firstGroup int) *layout {
 		es := entrances[b.ID]
 		switch {
 		case len(es) == 0:
-		case len(es) == 1:
+		case len(es) == 1 && len(copies[jIndex[es[0].Junction]]) == 1:
 			j := jIndex[es[0].Junction]
 			l.end[b.ID], l.endEntry[b.ID] = copies[j][0], es[0]
 			if !allows(b.ID) && inBuilding(net, es[0].Junction, b.ID) {
 				l.noTransit[copies[j][0]] = true
 			}
 		default:
-			first := net.Junctions[jIndex[es[0].Junction]].Point
-			v := add(-1, "building "+b.ID, [2]float64{first[0], first[1]})
-			// A building routes may cross joins its entrances; any other is only an end.
-			l.noTransit = append(l.noTransit, !allows(b.ID))
+			// The building's own node: several entrances, or one at a junction drawn as several
+			// nodes (split for turns, or shared with a building split per span). It is only
+			// ever an end: a route crosses a building over pathways drawn in it, or through
+			// one junction where they meet inside it (when the building allows it).
+			at := net.Junctions[jIndex[es[0].Junction]].Point
+			for _, e := range es[1:] {
+				if p := net.Junctions[jIndex[e.Junction]].Point; p[0] < at[0] || (p[0] == at[0] && p[1] < at[1]) {
+					at = p // the westmost, then southmost entrance: a place names do not move
+				}
+			}
+			v := add(-1, "building "+b.ID, [2]float64{at[0], at[1]})
+			l.noTransit = append(l.noTransit, true)
 			l.end[b.ID] = v
+			if len(es) == 1 {
+				l.endEntry[b.ID] = es[0] // one entrance: its lateral is the demand's, as above
+			}
 			for _, e := range es {
 				j := jIndex[e.Junction]
 				g := 0
-				if len(copies[j]) > 1 {
+				if len(copies[j]) > 1 && len(es) > 1 {
 					g = group
 					group++
+				}
+				if len(es) == 1 {
+					e.LateralM = 0 // counted by the demand (endEntry)
 				}
 				l.lateral = l.lateral || e.LateralM > 0
 				for _, n := range copies[j] {

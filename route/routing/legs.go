@@ -139,9 +139,10 @@ func fillLeg(s *site.Site, cm *Model, leg *Leg, ol optimize.Leg, medium string, 
 	for _, h := range ol.Hops {
 		if x, ok := lay.isExtra(len(s.Net.Spans), h.Edge); ok && x.kind == edgeEntrance {
 			leg.LateralM += x.entry.LateralM
-			if x.building == leg.Link.To {
+			switch x.building {
+			case leg.Link.To:
 				leg.EntranceTo = x.entry.ID
-			} else {
+			case leg.Link.From:
 				leg.EntranceFrom = x.entry.ID
 			}
 		}

@@ -137,12 +137,12 @@ func (s *Site) ThroughOnly(hub string) []string {
 }
 
 // Through says in words why building b reaches the hub only through other buildings: which
-// buildings stand in the way, and how to let routes cross one. It is the reason every leg to b
+// buildings stand in the way, and how routes may cross one. It is the reason every leg to b
 // carries when no route reaches it.
 func (s *Site) Through(b, hub string) string {
-	_, blockers := s.search(b, hub)
-	return fmt.Sprintf("building %s reaches %s only through %s, which routes may not cross: draw the pathway through the building (a tunnel or tray inside it) or give it the property %s: true",
-		b, hub, strings.Join(blockers, ", "), geo.PropTransit)
+	_, in := s.search(b, hub)
+	return fmt.Sprintf("building %s reaches %s only through %s: a route crosses a building only along a pathway drawn inside it (a tunnel or tray), "+
+		"or where pathways meet at one point inside it and it has the property %s: true", b, hub, strings.Join(in, ", "), geo.PropTransit)
 }
 
 // Apart says why no route joins buildings a and b, when the network is the cause: a is cut
@@ -159,10 +159,10 @@ func (s *Site) Apart(a, b string) (string, bool) {
 	return s.Through(a, b), true
 }
 
-// search walks the network from the entrances of building from, along spans and between the
-// entrances of from, of the hub and of buildings routes may cross; it stops at the entrances
-// of every other building. It returns the junctions it reached and, sorted, the buildings
-// whose entrances stopped it.
+// search walks the network from the entrances of building from, as routes may go: along
+// spans, between the entrances of from and of the hub (a route may start at any of them), and
+// through a junction inside another building only when that building allows transit. It
+// returns the junctions it reached and, sorted, the other buildings whose entrances it reached.
 func (s *Site) search(from, hub string) (map[string]bool, []string) {
 	open := func(b string) bool {
 		t, ok := s.Net.TransitOf(b)
@@ -177,12 +177,12 @@ func (s *Site) search(from, hub string) (map[string]bool, []string) {
 		link(sp.From, sp.To)
 	}
 	for i := 1; i < len(s.Net.Entrances); i++ {
-		if e, f := s.Net.Entrances[i-1], s.Net.Entrances[i]; e.Building == f.Building && open(e.Building) {
+		if e, f := s.Net.Entrances[i-1], s.Net.Entrances[i]; e.Building == f.Building && (e.Building == from || e.Building == hub) {
 			link(e.Junction, f.Junction)
 		}
 	}
 	seen := map[string]bool{}
-	var queue, blockers []string
+	var queue, met []string
 	for _, e := range s.Net.EntrancesOf(from) {
 		if !seen[e.Junction] {
 			seen[e.Junction] = true
@@ -195,14 +195,15 @@ func (s *Site) search(from, hub string) (map[string]bool, []string) {
 		if m, ok := s.Net.MeetingAt(j); ok {
 			stop := false
 			for _, b := range m.Buildings {
-				if !open(b) {
-					stop = true
-					if !slices.Contains(blockers, b) {
-						blockers = append(blockers, b)
-					}
+				if b == from || b == hub {
+					continue
 				}
+				if !slices.Contains(met, b) {
+					met = append(met, b)
+				}
+				stop = stop || !open(b)
 			}
-			if stop && !slices.ContainsFunc(s.Net.EntrancesOf(from), func(e geo.Entry) bool { return e.Junction == j }) {
+			if stop {
 				continue // reached, not passed
 			}
 		}
@@ -213,8 +214,8 @@ func (s *Site) search(from, hub string) (map[string]bool, []string) {
 			}
 		}
 	}
-	slices.Sort(blockers)
-	return seen, blockers
+	slices.Sort(met)
+	return seen, met
 }
 
 // CutOff says in words why building b has no path to the hub, and what might join it: the

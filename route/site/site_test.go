@@ -296,7 +296,7 @@ func TestSiteFacts(t *testing.T) {
 	if got := s.ThroughOnly("A"); !slices.Equal(got, []string{"C"}) {
 		t.Errorf("reached only through another building: %q, want [C]", got)
 	}
-	if got, want := s.Through("C", "A"), `building C reaches A only through B, which routes may not cross`; !strings.HasPrefix(got, want) {
+	if got, want := s.Through("C", "A"), `building C reaches A only through B: a route crosses a building only along a pathway drawn inside it`; !strings.HasPrefix(got, want) {
 		t.Errorf("through reason:\n got %s\nwant %s…", got, want)
 	}
 	if got := s.Unreachable("A"); !slices.Equal(got, []string{"I"}) {
