@@ -282,8 +282,7 @@ func runsAt(net *geo.Network, j string, spans []int) [][]int {
 	for i := range rep {
 		rep[i] = i
 	}
-	var find func(int) int
-	find = func(x int) int {
+	find := func(x int) int {
 		for rep[x] != x {
 			x = rep[x]
 		}
