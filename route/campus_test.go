@@ -194,3 +194,32 @@ func TestOneTrenchTwoDucts(t *testing.T) {
 		}
 	}
 }
+
+// TestDiverseLegsCrossAtAJunction: ducts P (west-east) and Q (south-north) cross at a junction
+// with no structure, drawn with a shared vertex. The optimizer splits it into two runs, so a
+// diverse pair may use both; a backhoe there cuts both, and the diverse leg says so (issue
+// 13: the legs share no junction; common practice, no published source).
+func TestDiverseLegsCrossAtAJunction(t *testing.T) {
+	t.Parallel()
+	campus := collection(testsite.Box("A", "mc", 0, 150), testsite.Box("B", "", 300, 150),
+		duct("P", 0, 140, 0, 100, 150, 100, 300, 100, 300, 140), duct("Q", 10, 160, 10, 200, 150, 200, 150, 100, 150, 0, 290, 0, 290, 140))
+	r, err := testplan.PullSolveJSON(t, campus, diverse("B"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	noted := 0
+	for _, l := range r.Legs {
+		if l.Name != routing.LegDiverse {
+			continue
+		}
+		if !l.Feasible {
+			t.Fatalf("diverse leg infeasible: %s", l.Reason)
+		}
+		if strings.Contains(l.Choice, "both legs pass junction ") && strings.Contains(l.Choice, "where their ducts cross with no structure") {
+			noted++
+		}
+	}
+	if noted != 1 {
+		t.Errorf("%d diverse legs name the crossing, want 1: %+v", noted, r.Legs)
+	}
+}

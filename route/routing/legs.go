@@ -116,6 +116,11 @@ func legsOf(s *site.Site, cm *Model, prob *optimize.Problem, rt *optimize.Route,
 					d.Choice += fmt.Sprintf("; both legs use building %s's only entrance %s, a single point of failure", b, e.ID)
 				}
 			}
+			// The optimizer keeps the legs off each other's nodes; a junction drawn as several
+			// nodes (runs of duct crossing with no structure) may still be on both.
+			if shared := sharedJunctions(s, &primary, &d); len(shared) > 0 && d.Feasible {
+				d.Choice += fmt.Sprintf("; both legs pass junction %s, where their ducts cross with no structure: a single point of failure", strings.Join(shared, ", "))
+			}
 		} else {
 			d.Reason = "no diverse route: " + singlePoint(s, cm.layout, prob, rt)
 		}
@@ -335,4 +340,24 @@ func interiorM(s *site.Site, b string, ol optimize.Leg) float64 {
 		}
 	}
 	return m
+}
+
+// sharedJunctions lists, in a's travel order, the junctions both legs pass between their
+// ends.
+func sharedJunctions(s *site.Site, a, b *Leg) []string {
+	inner := func(l *Leg) []string {
+		js := s.JunctionsOf(l.Steps)
+		if len(js) < 2 {
+			return nil
+		}
+		return js[1 : len(js)-1]
+	}
+	var out []string
+	bs := inner(b)
+	for _, j := range inner(a) {
+		if slices.Contains(bs, j) && !slices.Contains(out, j) {
+			out = append(out, j)
+		}
+	}
+	return out
 }
