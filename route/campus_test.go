@@ -223,3 +223,19 @@ func TestDiverseLegsCrossAtAJunction(t *testing.T) {
 		t.Errorf("%d diverse legs name the crossing, want 1: %+v", noted, r.Legs)
 	}
 }
+
+// TestTouchingBuildingsOneEntrance: A and F share a wall, and the only pathway ends on it, so
+// both are entered at one point. The leg between them is infeasible with a reason a user can
+// act on, not the optimizer's node numbers.
+func TestTouchingBuildingsOneEntrance(t *testing.T) {
+	t.Parallel()
+	campus := collection(testsite.Box("A", "mc", 50, 25), testsite.Box("F", "", 70, 25), duct("X", 60, 25, 60, -50, 200, -50))
+	r, err := testplan.PullSolveJSON(t, campus, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	l := r.Legs[0]
+	if l.Feasible || !strings.Contains(l.Reason, "F and A are entered at one and the same point") || strings.Contains(l.Reason, "node") {
+		t.Errorf("leg %s: feasible %v, reason %q", l.Link.ID, l.Feasible, l.Reason)
+	}
+}

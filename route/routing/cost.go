@@ -339,6 +339,13 @@ func demand(s *site.Site, m *Model, l *site.Link) (optimize.Demand, demandInfo) 
 	if !okS || !okD {
 		return dm, info // no entrance: no option, so no route (the reason comes from the site, route.Result.cutOff)
 	}
+	if srcN == dstN {
+		// Two buildings drawn touching, entered at one point: no cable route between them
+		// that spanwright can measure.
+		info.excluded = append(info.excluded, fmt.Sprintf("%s and %s are entered at one and the same point (%s): draw the pathway between their telecom rooms, or give each its own entrance",
+			l.To, l.From, lay.name[srcN]))
+		return dm, info
+	}
 	for _, med := range m.eng.Media() {
 		mm := m.eng.Catalog().Medium(med)
 		if lateral > 0 && !m.allowed(med, rate, future, strands, lateralClass) {

@@ -91,7 +91,11 @@ func legsOf(s *site.Site, cm *Model, prob *optimize.Problem, rt *optimize.Route,
 		if primary.Reason == "" {
 			primary.Reason = "no route and medium satisfy the rules"
 		}
-		if len(info.excluded) > 0 {
+		switch {
+		case len(info.options) == 0 && len(info.excluded) > 0:
+			// Nothing was routed: the optimizer's reason would only restate that.
+			primary.Reason = strings.Join(info.excluded, "; ")
+		case len(info.excluded) > 0:
 			primary.Reason += "; before routing: " + strings.Join(info.excluded, "; ")
 		}
 		legs := []Leg{primary}
