@@ -57,6 +57,7 @@ func ll(xM, yM float64) [2]float64 {
 // Generate builds a campus from seed.
 func Generate(seed uint64, opt Options) *Campus {
 	r := rand.New(rand.NewPCG(seed, seed^0x9e3779b97f4a7c15))
+	r2 := rand.New(rand.NewPCG(seed^0x5851f42d4c957f2d, seed)) // for what was added later, see below
 	n := max(opt.Buildings, 3)
 	prop := opt.ProposedPct
 	if prop == 0 {
@@ -237,6 +238,19 @@ func Generate(seed uint64, opt Options) *Campus {
 		if off > 20 || r.Float64() < 0.7 {
 			add(lineFeature([][2]float64{p, {p[0] + dx*off, p[1] + dy*off}}, []Prop{{"kind", "pathway"},
 				{"id", id + "-L"}, {"spare_ducts", r.IntN(3)}}))
+			// Drawn from a stream of their own, so that every feature above is the same for a
+			// seed as before they were added: a second lateral from another vertex of the street
+			// into the footprint (a building with two entrances), and a building that routes
+			// may cross (transit: true).
+			if q := s.pts[1+r2.IntN(len(s.pts)-2)]; q != p && r2.Float64() < 0.15 {
+				ux, uy := q[0]-cx, q[1]-cy
+				l := math.Hypot(ux, uy)
+				e := [2]float64{cx + 0.6*half*ux/l, cy + 0.6*half*uy/l}
+				add(lineFeature([][2]float64{q, e}, []Prop{{"kind", "pathway"}, {"id", id + "-L2"}, {"spare_ducts", r2.IntN(3)}}))
+			}
+			if r2.Float64() < 0.05 {
+				c.Features[placedAt[len(placedAt)-1]].Props = append(c.Features[placedAt[len(placedAt)-1]].Props, Prop{"transit", true})
+			}
 		}
 		b++
 	}
