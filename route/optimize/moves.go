@@ -157,6 +157,12 @@ func (sv *solver) chargeMoves() bool {
 		}
 		slices.Sort(users)
 		users = slices.Compact(users)
+		// Demands without a diverse pair first: their reroutes are single searches, and the
+		// move is abandoned as soon as what they cost exceeds the charge, often before any
+		// pair search.
+		slices.SortStableFunc(users, func(a, b int32) int {
+			return boolCmp(sv.p.Demands[a].Diverse, sv.p.Demands[b].Diverse)
+		})
 		if sv.closeSet(int32(-1-k), edges, users, ch.Cents) {
 			changed = true
 		}
@@ -883,4 +889,15 @@ func (sv *solver) joined(d int) bool {
 	}
 	sv.joinQueue = queue
 	return found || src == dst
+}
+
+// boolCmp orders false before true.
+func boolCmp(a, b bool) int {
+	switch {
+	case a == b:
+		return 0
+	case !a:
+		return -1
+	}
+	return 1
 }
