@@ -859,12 +859,23 @@ func (sv *solver) kicks() {
 	}
 }
 
-// joined reports whether demand d's ends are joined by edges not forbidden, whatever else a
-// route must respect (transit-free nodes, flags, reach, capacity): a search finds no route
-// where this finds none.
+// joined reports whether demand d's ends may still be joined by edges not forbidden,
+// whatever else a route must respect (transit-free nodes, flags, reach, capacity): where it
+// says no, a search finds no route. It looks from each end at most joinBudget nodes far: a
+// forbidden charge cuts off the small side (a building's lateral), which a short look settles;
+// a longer one says yes.
 func (sv *solver) joined(d int) bool {
-	n := sv.net
 	src, dst := int32(sv.p.Demands[d].Source), int32(sv.p.Demands[d].Target)
+	return src == dst || (sv.reaches(src, dst) && sv.reaches(dst, src))
+}
+
+// joinBudget is how many nodes joined looks at from one end before it says yes.
+const joinBudget = 256
+
+// reaches reports whether a walk from src over edges not forbidden meets dst, or goes on past
+// joinBudget nodes without running out.
+func (sv *solver) reaches(src, dst int32) bool {
+	n := sv.net
 	if sv.joinSeen == nil {
 		sv.joinSeen = make([]uint32, n.nodes)
 	}
@@ -872,23 +883,24 @@ func (sv *solver) joined(d int) bool {
 	stamp := sv.joinStamp
 	queue := append(sv.joinQueue[:0], src)
 	sv.joinSeen[src] = stamp
-	found := false
-	for i := 0; i < len(queue) && !found; i++ {
+	defer func() { sv.joinQueue = queue }()
+	for i := 0; i < len(queue); i++ {
+		if len(queue) > joinBudget {
+			return true
+		}
 		v := queue[i]
 		for _, a := range n.adj[n.start[v]:n.start[v+1]] {
 			if sv.forbid[a.edge] || sv.joinSeen[a.to] == stamp {
 				continue
 			}
 			if a.to == dst {
-				found = true
-				break
+				return true
 			}
 			sv.joinSeen[a.to] = stamp
 			queue = append(queue, a.to)
 		}
 	}
-	sv.joinQueue = queue
-	return found || src == dst
+	return false
 }
 
 // boolCmp orders false before true.
