@@ -321,7 +321,7 @@ func objectiveOf(r *route.Result, prob *optimize.Problem, links []site.Link) int
 			continue
 		}
 		for _, end := range [][2]string{{l.EntranceTo, l.Link.To}, {l.EntranceFrom, l.Link.From}} {
-			if e, ok := byID["entrance "+end[0]+" of "+end[1]]; ok && e.LengthM > 0 {
+			if e, ok := byID["entrance "+end[0]+" of "+end[1]]; ok && (e.CableM > 0 || e.PerCableCents > 0) {
 				var perM int64
 				for d := range links {
 					for _, o := range prob.Demands[d].Options {

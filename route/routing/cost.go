@@ -271,6 +271,12 @@ func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, []de
 				e.PerCableCents = m.cents(items.LegEnds(0, 0, lat)...)
 				e.Flags = m.classBit[lateralClass]
 			}
+			if loop := items.LoopM(s, d, x.junction) / 2; loop > 0 {
+				// The other half of the slack loop at an entrance that is a structure: the
+				// route's first span carries one half (as every span does at its ends).
+				e.CableM += items.Wasted(d, loop)
+				e.PerCableCents += m.cents(items.StructureLoops(loop)...)
+			}
 		case edgeTurn:
 			e.ID = "turn at " + x.junction
 		}
