@@ -193,6 +193,9 @@ func TestCores(t *testing.T) {
 // seeds are the campuses to run: the quick ones, or with SPANWRIGHT_SOAK=N (make soak) N
 // campuses from seed 1000 on.
 func seeds() []uint64 {
+	if s, err := strconv.ParseUint(os.Getenv("SPANWRIGHT_SOAK_SEED"), 10, 64); err == nil {
+		return []uint64{s} // one campus, to look into a failure of make soak
+	}
 	n, _ := strconv.Atoi(os.Getenv("SPANWRIGHT_SOAK"))
 	if n <= 0 {
 		return quickSeeds

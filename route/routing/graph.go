@@ -1,6 +1,8 @@
 package routing
 
 import (
+	"fmt"
+	"math"
 	"slices"
 
 	"spanwright/geo"
@@ -151,24 +153,24 @@ func newLayout(s *site.Site, firstGroup int) *layout {
 		switch {
 		case perSpan[j]:
 			for _, i := range spansAt[j] {
-				n := add(j, jn.ID+"#"+net.Spans[i].ID, at)
+				n := add(j, tieName(1, bearingAt(net, i, jn.ID), jn.ID+"#"+net.Spans[i].ID), at)
 				copies[j] = append(copies[j], n)
 				l.setEnd(net, i, jn.ID, n)
 			}
 		case turnAt[j]:
 			for _, run := range runsAt(net, jn.ID, spansAt[j]) {
-				name := net.Spans[run[0]].PathwayID
+				name, bearing := net.Spans[run[0]].PathwayID, bearingAt(net, run[0], jn.ID)
 				for _, i := range run[1:] {
-					name = min(name, net.Spans[i].PathwayID)
+					name, bearing = min(name, net.Spans[i].PathwayID), min(bearing, bearingAt(net, i, jn.ID))
 				}
-				n := add(j, jn.ID+"#"+name, at)
+				n := add(j, tieName(1, bearing, jn.ID+"#"+name), at)
 				copies[j] = append(copies[j], n)
 				for _, i := range run {
 					l.setEnd(net, i, jn.ID, n)
 				}
 			}
 		default:
-			n := add(j, jn.ID, at)
+			n := add(j, tieName(0, 0, jn.ID), at)
 			copies[j] = []int{n}
 			for _, i := range spansAt[j] {
 				l.setEnd(net, i, jn.ID, n)
@@ -199,7 +201,7 @@ func newLayout(s *site.Site, firstGroup int) *layout {
 					at = p // the westmost, then southmost entrance: a place names do not move
 				}
 			}
-			v := add(-1, "building "+b.ID, [2]float64{at[0], at[1]})
+			v := add(-1, tieName(2, 0, "building "+b.ID), [2]float64{at[0], at[1]})
 			l.noTransit = append(l.noTransit, true)
 			l.end[b.ID] = v
 			if len(es) == 1 {
@@ -313,4 +315,30 @@ func runsAt(net *geo.Network, j string, spans []int) [][]int {
 		runs[k] = append(runs[k], i)
 	}
 	return runs
+}
+
+// tieName names a node for the canonical order of nodes at one position (canonicalize):
+// whole junctions, then the copies of a split junction by the bearing of their spans, then a
+// building's node, and only then the ids, so that renaming ids reorders nothing.
+func tieName(kind int, bearingDeg float64, id string) string {
+	return fmt.Sprintf("%d|%08.3f|%s", kind, bearingDeg, id)
+}
+
+// bearingAt is the direction in which span i leaves junction j, in degrees from east,
+// counterclockwise, in [0, 360): from j to the span's next vertex, on a local flat projection.
+func bearingAt(net *geo.Network, i int, j string) float64 {
+	sp := &net.Spans[i]
+	if len(sp.Line) < 2 {
+		return 0
+	}
+	at, next := sp.Line[0], sp.Line[1]
+	if sp.From != j {
+		at, next = sp.Line[len(sp.Line)-1], sp.Line[len(sp.Line)-2]
+	}
+	dx := (next[0] - at[0]) * math.Cos(at[1]*math.Pi/180)
+	deg := math.Atan2(next[1]-at[1], dx) * 180 / math.Pi
+	if deg < 0 {
+		deg += 360
+	}
+	return deg
 }
