@@ -239,3 +239,33 @@ func TestTouchingBuildingsOneEntrance(t *testing.T) {
 		t.Errorf("leg %s: feasible %v, reason %q", l.Link.ID, l.Feasible, l.Reason)
 	}
 }
+
+// TestOneUsableEntrance: B has two entrances, but the second one's duct leads nowhere (a stub
+// to an old pit never joined). The diverse link is planned as at a building with one
+// entrance: both legs through it, one duct from each street, and the reason names the
+// entrance as the single point of failure (it failed before: the legs had to use two
+// entrances, and the stub's led nowhere).
+func TestOneUsableEntrance(t *testing.T) {
+	t.Parallel()
+	campus := collection(testsite.Box("A", "mc", 50, 50), testsite.Box("B", "", 250, 50),
+		duct("S", 0, 0, 50, 0, 250, 0, 300, 0), duct("N", 0, 100, 50, 100, 250, 100, 300, 100),
+		// B's usable entrance takes a duct from each street at one point; its other entrance
+		// is the stub's end.
+		duct("LA1", 50, 0, 50, 45), duct("LA2", 50, 100, 50, 55), duct("LB1", 250, 0, 250, 45), duct("LB2", 250, 100, 250, 45),
+		duct("STUB", 255, 55, 275, 80), handhole("H1", 50, 0), handhole("H2", 50, 100), handhole("H3", 250, 0), handhole("H4", 250, 100))
+	r, err := testplan.PullSolveJSON(t, campus, diverse("B"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, l := range r.Legs {
+		if l.Link.To != "B" {
+			continue
+		}
+		if !l.Feasible {
+			t.Fatalf("%s leg infeasible: %s", l.Name, l.Reason)
+		}
+		if l.Name == routing.LegDiverse && !strings.Contains(l.Choice, "both legs use building B's only entrance") {
+			t.Errorf("diverse leg does not name B's only usable entrance: %s", l.Choice)
+		}
+	}
+}

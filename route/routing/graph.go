@@ -121,6 +121,27 @@ func newLayout(s *site.Site, firstGroup int) *layout {
 			}
 		}
 	}
+	// An entrance whose pathways reach no other building's entrance leads nowhere: a building
+	// keeps only those that lead somewhere (all, when none does), so that one usable entrance
+	// is planned as a building's only one (both legs of a diverse link through it, named as
+	// the single point of failure) rather than as one of two.
+	part := spanParts(net, jIndex)
+	reach := map[int]map[string]bool{} // part → buildings with an entrance in it
+	for b, es := range entrances {
+		for _, e := range es {
+			p := part[jIndex[e.Junction]]
+			if reach[p] == nil {
+				reach[p] = map[string]bool{}
+			}
+			reach[p][b] = true
+		}
+	}
+	for b, es := range entrances {
+		keep := slices.DeleteFunc(slices.Clone(es), func(e geo.Entry) bool { return len(reach[part[jIndex[e.Junction]]]) < 2 })
+		if len(keep) > 0 && len(keep) < len(es) {
+			entrances[b] = keep
+		}
+	}
 	// How each junction is drawn: whole, split per span (an entrance of a building routes may
 	// not cross and that has other entrances), or split per pathway (for turns).
 	perSpan := make([]bool, len(net.Junctions))
@@ -341,4 +362,29 @@ func bearingAt(net *geo.Network, i int, j string) float64 {
 		deg += 360
 	}
 	return deg
+}
+
+// spanParts labels each junction (by index) with its connected part of the network by spans
+// alone.
+func spanParts(net *geo.Network, jIndex map[string]int) []int {
+	parent := make([]int, len(net.Junctions))
+	for i := range parent {
+		parent[i] = i
+	}
+	find := func(x int) int {
+		for parent[x] != x {
+			parent[x] = parent[parent[x]]
+			x = parent[x]
+		}
+		return x
+	}
+	for _, sp := range net.Spans {
+		if a, b := find(jIndex[sp.From]), find(jIndex[sp.To]); a != b {
+			parent[max(a, b)] = min(a, b)
+		}
+	}
+	for i := range parent {
+		parent[i] = find(i)
+	}
+	return parent
 }
