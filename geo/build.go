@@ -1002,7 +1002,7 @@ func (b *builder) spans(n *Network) {
 		n.Spans = append(n.Spans, Span{
 			ID: id, PathwayID: pw.ID, From: b.ids[pc.from], To: b.ids[pc.to],
 			LengthM: LengthM(pc.pts), Type: pw.Type, Status: pw.Status, EMI: pw.EMI,
-			Surface: pw.Surface, Method: pw.Method, Plenum: pw.Plenum, Group: pw.Group, SpareDucts: pw.SpareDucts, DuctMM: pw.DuctMM,
+			Surface: pw.Surface, Method: pw.Method, MethodSet: pw.MethodSet, Plenum: pw.Plenum, Group: pw.Group, SpareDucts: pw.SpareDucts, DuctMM: pw.DuctMM,
 			BendsDeg: bends, Line: pc.pts,
 		})
 	}

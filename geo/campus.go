@@ -90,6 +90,7 @@ type Pathway struct {
 	EMI        string // EMINone, EMILow, EMIHigh
 	Surface    string // turf, asphalt, concrete or "" (for proposed work)
 	Method     string // MethodTrench or MethodBore: how new work along it is built
+	MethodSet  bool   // the campus gives the method; otherwise a plan may choose the cheaper
 	Plenum     bool   // a tray in a plenum (an air-handling space): cable there must be plenum rated
 	Group      string // shared-risk group; the pathway's own ID when absent
 	Lines      orb.MultiLineString

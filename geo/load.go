@@ -659,7 +659,7 @@ func (f *feature) pathway(g orb.Geometry, ok bool) {
 	status, _ := f.enum(PropStatus, statuses, StatusExisting)
 	emi, _ := f.enum(PropEMI, emis, EMINone)
 	surface, _ := f.enum(PropSurface, surfaces, "")
-	method, _ := f.enum(PropMethod, methods, MethodTrench)
+	method, methodFixed := f.enum(PropMethod, methods, MethodTrench)
 	plenum := f.flag(PropPlenum)
 	if plenum && typ != TypeTray {
 		// Cable in a raceway or outside a building is not in a plenum's air.
@@ -680,6 +680,7 @@ func (f *feature) pathway(g orb.Geometry, ok bool) {
 		EMI:        emi,
 		Surface:    surface,
 		Method:     method,
+		MethodSet:  methodFixed,
 		Plenum:     plenum,
 		Group:      group,
 		Lines:      lines,

@@ -48,6 +48,7 @@ type Span struct {
 	EMI        string
 	Surface    string
 	Method     string // MethodTrench or MethodBore, for new work along the span
+	MethodSet  bool   // the campus gives the method (Pathway.MethodSet)
 	Plenum     bool   // the span runs in a plenum (tray pathways only)
 	Group      string
 	SpareDucts int

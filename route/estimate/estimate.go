@@ -461,9 +461,10 @@ func (r *run) connectivity() {
 	}
 }
 
-// newWork counts new work along a span: bored, or trenched on its surface.
-func (c *Construction) newWork(sp *geo.Span) {
-	if sp.Method == geo.MethodBore {
+// newWork counts new work along a span built by method (items.MethodOf): bored, or trenched
+// on its surface.
+func (c *Construction) newWork(sp *geo.Span, method string) {
+	if method == geo.MethodBore {
 		c.BoreM += sp.LengthM
 		return
 	}
@@ -479,7 +480,7 @@ func (r *run) construction() {
 	c := Construction{TrenchM: map[string]float64{}}
 	for _, id := range r.Opened {
 		sp, _ := s.Net.Span(id)
-		c.newWork(&sp)
+		c.newWork(&sp, items.MethodOf(r.Engine.PriceBook(), &sp))
 		if sp.Type == geo.TypeDuct {
 			c.AddedDuctM += sp.LengthM
 		}
@@ -496,7 +497,7 @@ func (r *run) construction() {
 	for _, f := range r.Fill {
 		if f.AddedDucts > 0 {
 			sp, _ := s.Net.Span(f.Span)
-			c.newWork(&sp)
+			c.newWork(&sp, items.MethodOf(r.Engine.PriceBook(), &sp))
 			c.AddedDuctM += float64(f.AddedDucts) * sp.LengthM
 		}
 	}

@@ -210,7 +210,10 @@ func TestReelJoinsInLossBudget(t *testing.T) {
 // plan adds a duct where B's and C's cables share it.
 func TestConstruction(t *testing.T) {
 	t.Parallel()
-	r, err := testplan.PullSolve(t, 25, 1, nil)
+	// P's method is given as trench: unset, the plan would bore it (cheaper at the demo prices,
+	// TestMethodChosen).
+	campus := strings.Replace(testsite.PullCampus(25, 1), `"surface":"asphalt"`, `"surface":"asphalt","method":"trench"`, 1)
+	r, err := testplan.PullSolveJSON(t, campus, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -377,6 +380,40 @@ func TestCopperTakeoff(t *testing.T) {
 // TestConstructionBore is TestConstruction with the proposed duct P built by directional
 // bore: its metres are bored, not trenched, no surface is restored, and the bill prices them
 // at the book's directional_bore_per_m; a book without that price is an error naming it.
+// TestMethodChosen: P's method is not given, and the demo price book prices both: the plan
+// builds P the cheaper way per metre, directional bore at 115.00 against trench 96.00 plus
+// asphalt restoration 62.00 (the demo's invented prices), in the optimizer's cost and in the
+// bill alike (issue 15, item 2). Given as trench, it stays trench.
+func TestMethodChosen(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct{ method, want string }{{"", geo.MethodBore}, {"trench", geo.MethodTrench}} {
+		campus := testsite.PullCampus(25, 1)
+		if tc.method != "" {
+			campus = strings.Replace(campus, `"surface":"asphalt"`, `"surface":"asphalt","method":"`+tc.method+`"`, 1)
+		}
+		r, err := testplan.PullSolveJSON(t, campus, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if len(r.Opened) != 1 {
+			t.Fatalf("method %q: opened %v, want P", tc.method, r.Opened)
+		}
+		p, _ := r.Site.Net.Span(r.Opened[0])
+		con := r.Estimate.Construction
+		bored := testplan.BOMQty(r.Estimate.BOM, "directional bore")
+		switch tc.want {
+		case geo.MethodBore:
+			if con.BoreM != p.LengthM || con.TrenchM["asphalt"] != 0 || math.Abs(bored-p.LengthM) > 0.05 {
+				t.Errorf("unset: bore %.1f m, trench %v, bill bore %.1f; want P (%.1f m) bored", con.BoreM, con.TrenchM, bored, p.LengthM)
+			}
+		default:
+			if con.BoreM != 0 || con.TrenchM["asphalt"] != p.LengthM || bored != 0 {
+				t.Errorf("trench given: bore %.1f m, trench %v, bill bore %.1f", con.BoreM, con.TrenchM, bored)
+			}
+		}
+	}
+}
+
 func TestConstructionBore(t *testing.T) {
 	t.Parallel()
 	campus := strings.Replace(testsite.PullCampus(25, 1), `"surface":"asphalt"`, `"surface":"asphalt","method":"bore"`, 1)

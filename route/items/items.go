@@ -99,13 +99,43 @@ func Bore(metres float64) media.Quantity {
 		Price: media.PriceKey{Item: media.PriceBore}}
 }
 
-// NewWork is new civil work along metres of a span: a bore when its method is bore, else
-// Trench and restoration of its surface.
-func NewWork(sp *geo.Span, metres float64) []media.Quantity {
-	if sp.Method == geo.MethodBore {
+// NewWork is new civil work along metres of a span built by method: a bore, or trench and
+// restoration of its surface.
+func NewWork(sp *geo.Span, method string, metres float64) []media.Quantity {
+	if method == geo.MethodBore {
 		return []media.Quantity{Bore(metres)}
 	}
 	return Trench(SurfaceOf(sp), metres)
+}
+
+// MethodOf is how new work along a span is built: the campus's method when it gives one;
+// otherwise, when the price book prices both, the cheaper per metre of trench with the
+// restoration of the span's surface and directional bore (trench on a tie); otherwise trench.
+// The optimizer's problem and the bill both ask here, so they build the same way.
+func MethodOf(p *media.PriceBook, sp *geo.Span) string {
+	if sp.MethodSet {
+		return sp.Method
+	}
+	perM := func(qs ...media.Quantity) (float64, bool) {
+		var c float64
+		for _, q := range qs {
+			u, ok := p.UnitCents(q)
+			if !ok {
+				return 0, false
+			}
+			c += u
+		}
+		return c, true
+	}
+	trench, okT := perM(Trench(SurfaceOf(sp), 1)...)
+	bore, okB := perM(Bore(1))
+	if okT && okB && bore < trench {
+		return geo.MethodBore
+	}
+	if !okT && okB && sp.Method == geo.MethodBore {
+		return geo.MethodBore
+	}
+	return geo.MethodTrench
 }
 
 // AddedDuct is metres of duct laid in new work.
@@ -120,11 +150,11 @@ func JoinHandholes(n int) media.Quantity {
 		Unit: media.UnitEach, Amount: float64(n), Price: media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole}}
 }
 
-// Opening is what opening a proposed span takes: its new work, and a duct when it is a duct.
-// The handholes where it joins the network are charges of their junctions, paid once however
-// many opened spans meet there (package routing, layout).
-func Opening(sp *geo.Span) []media.Quantity {
-	q := NewWork(sp, sp.LengthM)
+// Opening is what opening a proposed span built by method takes: its new work, and a duct
+// when it is a duct. The handholes where it joins the network are charges of their junctions,
+// paid once however many opened spans meet there (package routing, layout).
+func Opening(sp *geo.Span, method string) []media.Quantity {
+	q := NewWork(sp, method, sp.LengthM)
 	if sp.Type == geo.TypeDuct {
 		q = append(q, AddedDuct(sp.LengthM))
 	}

@@ -245,7 +245,7 @@ func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, []de
 			e.Flags |= flagDuct
 		}
 		if sp.Status == geo.StatusProposed {
-			open := items.Opening(sp)
+			open := items.Opening(sp, items.MethodOf(m.prices, sp))
 			if err := m.prices.Check(items.KeysOf(open)); err != nil {
 				return nil, nil, err
 			}
@@ -253,7 +253,7 @@ func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, []de
 		} else if sp.Type == geo.TypeDuct {
 			e.Ducts, e.DuctIDMM = sp.SpareDucts, sp.DuctMM
 			// One trench or bore beside the span however many ducts it gets, and the ducts.
-			work := items.NewWork(sp, 1)
+			work := items.NewWork(sp, items.MethodOf(m.prices, sp), 1)
 			if m.prices.Check(items.KeysOf(append(work, items.AddedDuct(1)))) == nil && m.perM(items.AddedDuct(1)) > 0 {
 				e.AddDuctPerMCents, e.AddTrenchPerMCents = m.perM(items.AddedDuct(1)), m.perM(work...)
 			}
