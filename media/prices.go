@@ -654,6 +654,16 @@ func ParsePriceBook(name string, data []byte) (*PriceBook, error) {
 	return p, nil
 }
 
+// reportedItem reports whether a problem of item was reported already.
+func (c checker) reportedItem(item string) bool {
+	for _, p := range c.errs.List {
+		if p.File == c.file && p.Item == item {
+			return true
+		}
+	}
+	return false
+}
+
 // names checks that every name of list is one of allowed and named once, at the key's line,
 // and returns the list.
 func (c checker) names(p pos, item, key string, list, allowed []string) []string {
@@ -704,8 +714,14 @@ func (c checker) bidItems(ys []bidItemYAML) []BidItem {
 				given = append(given, k)
 			}
 		}
-		if len(given) != 1 {
-			c.bad(y.Pos, item, "id", ErrBadValue, "want exactly one of %s, got %d (%s)", strings.Join(all, ", "), len(given), strings.Join(given, ", "))
+		switch {
+		case len(given) > 1: // at the second basis given
+			c.bad(y.Pos, item, given[1], ErrBadValue, "want exactly one of %s, got %d (%s)", strings.Join(all, ", "), len(given), strings.Join(given, ", "))
+			continue
+		case len(given) == 0:
+			if !c.reportedItem(item) { // an unknown key, already reported, is usually the basis misspelt
+				c.bad(y.Pos, item, "id", ErrBadValue, "want one of %s besides id and description, got none", strings.Join(all, ", "))
+			}
 			continue
 		}
 		b := BidItem{ID: y.ID, Description: y.Description, Basis: given[0], Cents: int64(amounts[given[0]])}
