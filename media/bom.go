@@ -65,6 +65,10 @@ type BOMLine struct {
 	Quantity      float64
 	UnitCents     int64 // the book's price per Unit
 	ExtendedCents int64 // Quantity × UnitCents, rounded half up to a whole cent
+	// A bid item priced as a percentage only: one unit whose price is PercentBP of the sum
+	// of the lines of the categories PercentOf (a workbook writes it as that formula).
+	PercentBP int64
+	PercentOf []string
 }
 
 // Subtotal is the sum of the extended prices of one category, in cents.
@@ -228,8 +232,8 @@ func (b *BOM) percentItems(items []BidItem) {
 			continue
 		}
 		b.Lines = append(b.Lines, BOMLine{Category: CategoryBidItems, Unit: UnitEach, Quantity: 1, UnitCents: c, ExtendedCents: c,
-			Price: PriceKey{Item: PriceBidItem, Name: it.ID},
-			Item:  fmt.Sprintf("%s, %s %% of %s %s", it.Description, strconv.FormatFloat(float64(it.PercentBP)/100, 'f', -1, 64), strings.Join(it.Of, " + "), FormatCents(base))})
+			Price: PriceKey{Item: PriceBidItem, Name: it.ID}, PercentBP: it.PercentBP, PercentOf: it.Of,
+			Item: fmt.Sprintf("%s, %s %% of %s %s", it.Description, strconv.FormatFloat(float64(it.PercentBP)/100, 'f', -1, 64), strings.Join(it.Of, " + "), FormatCents(base))})
 	}
 }
 

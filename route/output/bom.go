@@ -186,6 +186,18 @@ func bomXLSX(ctx context.Context, r *route.Result, opt WriteOptions) ([]byte, er
 
 	// Bill of materials: lines, then subtotals, markups and the total, all formulas.
 	n := len(b.Lines)
+	last := max(n+1, 2)
+	catRange, extRange := fmt.Sprintf("$A$2:$A$%d", last), fmt.Sprintf("$F$2:$F$%d", last)
+	// Bid items priced as a percentage come last (Bill) and take a percentage of the lines
+	// above them: their ranges end before the first, so that no cell refers to itself.
+	above := last
+	for i, l := range b.Lines {
+		if l.PercentOf != nil {
+			above = max(i+1, 2)
+			break
+		}
+	}
+	catAbove, extAbove := fmt.Sprintf("$A$2:$A$%d", above), fmt.Sprintf("$F$2:$F$%d", above)
 	for i, l := range b.Lines {
 		row := i + 2
 		unit, qty, price := bomUnit(opt, l)
@@ -193,11 +205,19 @@ func bomXLSX(ctx context.Context, r *route.Result, opt WriteOptions) ([]byte, er
 		if unit == "ft" {
 			dp = 4
 		}
+		unitPrice := workbook.Number(price, dp)
+		if l.PercentOf != nil {
+			// A bid item priced as a percentage: its price is the percentage of its categories'
+			// lines, live, as Bill computed it.
+			var sums []string
+			for _, c := range l.PercentOf {
+				sums = append(sums, fmt.Sprintf("SUMIF(%s,%q,%s)", catAbove, c, extAbove))
+			}
+			unitPrice = workbook.Formula(fmt.Sprintf("ROUND((%s)*%s/100,2)", strings.Join(sums, "+"), pct(l.PercentBP)), 2)
+		}
 		bom.Append(workbook.Text(l.Category), workbook.Text(describe(opt, l)), workbook.Text(unit), workbook.Number(qty, dq),
-			workbook.Number(price, dp), workbook.Formula(fmt.Sprintf("ROUND(%s*%s,2)", workbook.Ref(3, row), workbook.Ref(4, row)), 2))
+			unitPrice, workbook.Formula(fmt.Sprintf("ROUND(%s*%s,2)", workbook.Ref(3, row), workbook.Ref(4, row)), 2))
 	}
-	last := max(n+1, 2)
-	catRange, extRange := fmt.Sprintf("$A$2:$A$%d", last), fmt.Sprintf("$F$2:$F$%d", last)
 	bom.Append()
 	subRow := map[string]int{}
 	for _, s := range b.Subtotal {
