@@ -5,6 +5,7 @@ import (
 	"math"
 	"sort"
 	"strconv"
+	"strings"
 
 	"spanwright/geo/input"
 )
@@ -64,6 +65,10 @@ type BOMLine struct {
 	Quantity      float64
 	UnitCents     int64 // the book's price per Unit
 	ExtendedCents int64 // Quantity × UnitCents, rounded half up to a whole cent
+	// A bid item priced as a percentage only: one unit whose price is PercentBP of the sum
+	// of the lines of the categories PercentOf (a workbook writes it as that formula).
+	PercentBP int64
+	PercentOf []string
 }
 
 // Subtotal is the sum of the extended prices of one category, in cents.
@@ -90,8 +95,13 @@ type BOM struct {
 	OverheadBP       int64
 	OverheadCents    int64
 	TaxBP            int64
-	TaxCents         int64 // on SubtotalCents + ContingencyCents + OverheadCents
-	TotalCents       int64
+	// Taxed are the categories and markups tax applies to (PriceBook.Taxed), TaxBaseCents
+	// their sum.
+	Taxed        []string
+	TaxBaseCents int64
+	TaxCents     int64 // TaxBP of TaxBaseCents
+	TotalCents   int64
+	bidItems     bool // the book has bid items: Subtotal lists CategoryBidItems too
 }
 
 // CategoryCents returns the subtotal of category c, 0 for a category with no lines.
@@ -115,7 +125,7 @@ func (b *BOM) Largest(n int) []BOMLine {
 	return lines
 }
 
-var categoryRank = map[string]int{CategoryMaterial: 0, CategoryLabour: 1, CategoryConstruction: 2, CategoryOptics: 3}
+var categoryRank = map[string]int{CategoryMaterial: 0, CategoryLabour: 1, CategoryConstruction: 2, CategoryOptics: 3, CategoryBidItems: 4}
 
 type lineKey struct {
 	category, item, unit string
@@ -162,7 +172,7 @@ func (p *PriceBook) Bill(qs []Quantity) (*BOM, error) {
 		return nil, err
 	}
 	b := &BOM{Label: p.Label, Currency: p.Currency,
-		ContingencyBP: p.ContingencyBP, OverheadBP: p.OverheadBP, TaxBP: p.TaxBP}
+		ContingencyBP: p.ContingencyBP, OverheadBP: p.OverheadBP, TaxBP: p.TaxBP, Taxed: p.Taxed, bidItems: len(p.BidItems) > 0}
 	for _, k := range keys {
 		amount := sums[k]
 		unitCents, _ := p.Price(k.price)
@@ -198,8 +208,73 @@ func (p *PriceBook) Bill(qs []Quantity) (*BOM, error) {
 		}
 		return x.Unit < y.Unit
 	})
+	b.percentItems(p.BidItems)
 	b.total()
 	return b, nil
+}
+
+// percentItems adds a line for each bid item priced as a percentage, after the other lines:
+// one unit at its percentage of the subtotal of its categories (rounded with ApplyBP), the
+// base named in the item's words.
+func (b *BOM) percentItems(items []BidItem) {
+	for _, it := range items {
+		if it.Basis != BasisPercentOf {
+			continue
+		}
+		var base int64
+		for _, l := range b.Lines {
+			if contains(it.Of, l.Category) {
+				base += l.ExtendedCents
+			}
+		}
+		c := ApplyBP(base, it.PercentBP)
+		if c == 0 {
+			continue
+		}
+		b.Lines = append(b.Lines, BOMLine{Category: CategoryBidItems, Unit: UnitEach, Quantity: 1, UnitCents: c, ExtendedCents: c,
+			Price: PriceKey{Item: PriceBidItem, Name: it.ID}, PercentBP: it.PercentBP, PercentOf: it.Of,
+			Item: fmt.Sprintf("%s, %s %% of %s %s", it.Description, strconv.FormatFloat(float64(it.PercentBP)/100, 'f', -1, 64), strings.Join(it.Of, " + "), FormatCents(base))})
+	}
+}
+
+// BidBases are the quantities a bid item may be priced per unit of (the per_* keys of
+// bid_items), each counted once by the estimate.
+type BidBases struct {
+	NewBuriedM, AerialM, ExistingDuctM     float64
+	Structures, Buildings, CableEnds, Legs int
+}
+
+// BidQuantities lists the bill quantities of the book's bid items priced as a lump sum (one
+// each) or per unit of a basis in bases, in file order, in CategoryBidItems; the items
+// priced as a percentage Bill adds itself.
+func (p *PriceBook) BidQuantities(bases BidBases) []Quantity {
+	var qs []Quantity
+	for _, it := range p.BidItems {
+		unit, amount := UnitEach, 0.0
+		switch it.Basis {
+		case BasisPercentOf:
+			continue
+		case BasisLumpSum:
+			amount = 1
+		case BasisNewBuriedM:
+			unit, amount = UnitM, bases.NewBuriedM
+		case BasisAerialM:
+			unit, amount = UnitM, bases.AerialM
+		case BasisExistingDuctM:
+			unit, amount = UnitM, bases.ExistingDuctM
+		case BasisStructure:
+			amount = float64(bases.Structures)
+		case BasisBuilding:
+			amount = float64(bases.Buildings)
+		case BasisCableEnd:
+			amount = float64(bases.CableEnds)
+		case BasisLeg:
+			amount = float64(bases.Legs)
+		}
+		qs = append(qs, Quantity{Category: CategoryBidItems, Item: it.Description, Unit: unit, Amount: amount,
+			Price: PriceKey{Item: PriceBidItem, Name: it.ID}})
+	}
+	return qs
 }
 
 // UnitCents is the price of one unit of q's Amount, in cents, and whether the book has the
@@ -248,7 +323,11 @@ func ExtendCents(quantityHundredths, unitCents int64) int64 {
 // total fills the subtotals, markups and total from the lines.
 func (b *BOM) total() {
 	b.Subtotal = b.Subtotal[:0]
-	for _, c := range Categories() {
+	cats := Categories()
+	if b.bidItems {
+		cats = append(cats, CategoryBidItems)
+	}
+	for _, c := range cats {
 		s := Subtotal{Category: c}
 		for _, l := range b.Lines {
 			if l.Category == c {
@@ -260,7 +339,22 @@ func (b *BOM) total() {
 	}
 	b.ContingencyCents = ApplyBP(b.SubtotalCents, b.ContingencyBP)
 	b.OverheadCents = ApplyBP(b.SubtotalCents, b.OverheadBP)
-	b.TaxCents = ApplyBP(b.SubtotalCents+b.ContingencyCents+b.OverheadCents, b.TaxBP)
+	if b.Taxed == nil { // a BOM built by hand: everything taxed, as a book that does not say
+		b.Taxed = append(cats, MarkupContingency, MarkupOverhead)
+	}
+	b.TaxBaseCents = 0
+	for _, s := range b.Subtotal {
+		if contains(b.Taxed, s.Category) {
+			b.TaxBaseCents += s.Cents
+		}
+	}
+	if contains(b.Taxed, MarkupContingency) {
+		b.TaxBaseCents += b.ContingencyCents
+	}
+	if contains(b.Taxed, MarkupOverhead) {
+		b.TaxBaseCents += b.OverheadCents
+	}
+	b.TaxCents = ApplyBP(b.TaxBaseCents, b.TaxBP)
 	b.TotalCents = b.SubtotalCents + b.ContingencyCents + b.OverheadCents + b.TaxCents
 }
 

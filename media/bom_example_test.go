@@ -7,8 +7,10 @@ import (
 )
 
 // Pricing a small bill of materials from the embedded demo price book (invented prices):
-// 412 m at 60 m/h is 6.87 h; contingency 10 % and overhead 12 % of 1673.76 are 167.38 and
-// 200.85, tax 7.25 % of 2041.99 is 148.04 (computed).
+// 412 m at 60 m/h is 6.87 h; the book's bid item project management is 4 % of the 1673.76 of
+// the other categories, 66.95, making the subtotal 1740.71; contingency 10 % and overhead 12 %
+// of it are 174.07 and 208.89; the book taxes material and optics only: 7.25 % of
+// 951.72 + 90.00 = 1041.72 is 75.52 (computed).
 func ExamplePriceBook_Bill() {
 	book := media.DefaultPriceBook()
 	bom, err := book.Bill([]media.Quantity{
@@ -32,5 +34,6 @@ func ExamplePriceBook_Bill() {
 	// material cable os2 osp-loose-tube, 24 strands                412.00 m    ×    2.31 =   951.72
 	// labour   pull cable in duct: 412.0 m at 60.0 m per hour        6.87 h    ×   92.00 =   632.04
 	// optics   transceiver 10GBASE-LR                                2.00 each ×   45.00 =    90.00
-	// subtotal 1673.76 total 2190.03 USD
+	// bid items project management, 4 % of material + labour + construction + optics 1673.76    1.00 each ×   66.95 =    66.95
+	// subtotal 1740.71 total 2199.19 USD
 }

@@ -35,6 +35,7 @@ const (
 	PriceTransceiver   = "transceiver"    // each: Name, the catalog application's price key
 	PricePatchCord     = "patch-cord"     // each, from a panel to the equipment: Medium (optional section, see PriceBook.Has)
 	PriceAttenuator    = "attenuator"     // a fixed in-line optical attenuator, each: Count dB (optional section)
+	PriceBidItem       = "bid-item"       // an entry of bid_items priced as a lump sum or per unit of its basis: Name its id (optional section)
 
 	RatePull        = "pull-rate"        // metres pulled per hour: Name pathway type (duct, tunnel, aerial, buried, tray)
 	RateSplice      = "splice-rate"      // splices per hour
@@ -106,6 +107,8 @@ func (k PriceKey) Path() string {
 		return "patch_cords_each." + k.Medium
 	case PriceAttenuator:
 		return "attenuators_each." + n
+	case PriceBidItem:
+		return "bid_items[id " + k.Name + "]"
 	case RatePull:
 		return "labour.pull_m_per_hour." + k.Name
 	case RateSplice:
@@ -138,7 +141,12 @@ type PriceBook struct {
 
 	ContingencyBP int64 // contingency on the subtotal
 	OverheadBP    int64 // overhead on the subtotal
-	TaxBP         int64 // tax on subtotal plus contingency and overhead
+	TaxBP         int64 // tax on the taxed categories' subtotals, and on contingency and overhead when taxed
+	// Taxed lists what tax applies to: categories and the markups "contingency" and
+	// "overhead" (taxed_categories); all of them when the book does not say.
+	Taxed []string
+	// BidItems are the items a bid carries (bid_items), in file order.
+	BidItems []BidItem
 
 	money map[PriceKey]int64
 	rates map[PriceKey]float64
@@ -352,6 +360,62 @@ type priceFile struct {
 	TerminationMethod   string                              `yaml:"termination_method"`
 	AttenuatorsEach     map[int]cents                       `yaml:"attenuators_each" keyrange:"attenuator-db"`
 	Markups             markupsYAML                         `yaml:"markups_percent"`
+	TaxedCategories     []string                            `yaml:"taxed_categories"`
+	BidItems            []bidItemYAML                       `yaml:"bid_items" item:"bid item"`
+}
+
+type bidItemYAML struct {
+	Pos         pos           `yaml:"-"`
+	ID          string        `yaml:"id"`
+	Description string        `yaml:"description"`
+	LumpSum     cents         `yaml:"lump_sum"`
+	PerM        cents         `yaml:"per_m_new_buried"`
+	PerAerialM  cents         `yaml:"per_m_aerial"`
+	PerDuctM    cents         `yaml:"per_m_existing_duct_used"`
+	PerStruct   cents         `yaml:"per_structure_passed"`
+	PerBuilding cents         `yaml:"per_building_served"`
+	PerEnd      cents         `yaml:"per_cable_end"`
+	PerLeg      cents         `yaml:"per_leg"`
+	PercentOf   percentOfYAML `yaml:"percent_of"`
+}
+
+type percentOfYAML struct {
+	Pos        pos         `yaml:"-"`
+	Percent    basisPoints `yaml:"percent"`
+	Categories []string    `yaml:"categories"`
+}
+
+// Bases of a bid item, the keys of bid_items that price one (BidItem.Basis): a lump sum,
+// a rate per unit of a quantity the estimate counts (BidBases), or a percentage of the
+// subtotal of listed categories.
+const (
+	BasisLumpSum       = "lump_sum"
+	BasisNewBuriedM    = "per_m_new_buried"         // metres of new trench and bore
+	BasisAerialM       = "per_m_aerial"             // metres of aerial spans the routes use, each span once
+	BasisExistingDuctM = "per_m_existing_duct_used" // metres of existing duct spans the routes use, each span once
+	BasisStructure     = "per_structure_passed"     // structures the routes pass through, each once
+	BasisBuilding      = "per_building_served"      // buildings that terminate cable
+	BasisCableEnd      = "per_cable_end"            // cable ends: two per cable of every feasible leg
+	BasisLeg           = "per_leg"                  // feasible legs
+	BasisPercentOf     = "percent_of"
+	MarkupContingency  = "contingency"
+	MarkupOverhead     = "overhead"
+	CategoryBidItems   = "bid items" // the category of bid item lines, listed after the others when the book has bid items
+)
+
+// PerUnitBases returns the bases priced per unit of a counted quantity, in a fixed order.
+func PerUnitBases() []string {
+	return []string{BasisNewBuriedM, BasisAerialM, BasisExistingDuctM, BasisStructure, BasisBuilding, BasisCableEnd, BasisLeg}
+}
+
+// BidItem is one item a bid carries: a lump sum (Cents), a rate in Cents per unit of a
+// counted Basis, or PercentBP of the subtotal of the categories Of.
+type BidItem struct {
+	ID, Description string
+	Basis           string // a Basis* constant
+	Cents           int64
+	PercentBP       int64
+	Of              []string
 }
 
 type spliceTrayYAML struct {
@@ -571,10 +635,110 @@ func ParsePriceBook(name string, data []byte) (*PriceBook, error) {
 			}
 		}
 	}
+	p.Taxed = append(Categories(), MarkupContingency, MarkupOverhead)
+	if len(f.BidItems) > 0 {
+		p.Taxed = append(Categories(), CategoryBidItems, MarkupContingency, MarkupOverhead)
+	}
+	if f.Pos.Has("taxed_categories") {
+		p.Taxed = c.names(f.Pos, "", "taxed_categories", f.TaxedCategories, p.Taxed)
+	}
+	p.BidItems = c.bidItems(f.BidItems)
+	for _, b := range p.BidItems {
+		if b.Basis != BasisPercentOf {
+			money(PriceKey{Item: PriceBidItem, Name: b.ID}, cents(b.Cents))
+		}
+	}
 	if err := sorted(&errs); err != nil {
 		return nil, err
 	}
 	return p, nil
+}
+
+// reportedItem reports whether a problem of item was reported already.
+func (c checker) reportedItem(item string) bool {
+	for _, p := range c.errs.List {
+		if p.File == c.file && p.Item == item {
+			return true
+		}
+	}
+	return false
+}
+
+// names checks that every name of list is one of allowed and named once, at the key's line,
+// and returns the list.
+func (c checker) names(p pos, item, key string, list, allowed []string) []string {
+	seen := map[string]bool{}
+	for i, n := range list {
+		field := fmt.Sprintf("%s[%d]", key, i)
+		switch {
+		case !contains(allowed, n):
+			c.bad(p, item, field, ErrBadValue, "want one of %s, got %q", strings.Join(allowed, ", "), n)
+		case seen[n]:
+			c.bad(p, item, field, ErrBadValue, "%q is listed twice", n)
+		}
+		seen[n] = true
+	}
+	return append([]string{}, list...)
+}
+
+// bidItems checks the entries of bid_items: an id, a description, exactly one basis, and for
+// percent_of a percentage and the categories it applies to.
+func (c checker) bidItems(ys []bidItemYAML) []BidItem {
+	var out []BidItem
+	ids := map[string]bool{}
+	for i, y := range ys {
+		item := "bid item " + itemLabel(y.ID, i)
+		if !c.require(y.Pos, item, "id", "description") {
+			continue
+		}
+		if !idRE.MatchString(y.ID) {
+			c.bad(y.Pos, item, "id", ErrBadValue, "want lower-case letters, digits and hyphens, got %q", y.ID)
+			continue
+		}
+		if ids[y.ID] {
+			c.bad(y.Pos, item, "id", ErrDuplicateID, "%q is used by an earlier bid item", y.ID)
+			continue
+		}
+		ids[y.ID] = true
+		if strings.TrimSpace(y.Description) == "" {
+			c.bad(y.Pos, item, "description", ErrBadValue, "want words saying what the item is, got an empty string")
+			continue
+		}
+		amounts := map[string]cents{BasisLumpSum: y.LumpSum, BasisNewBuriedM: y.PerM, BasisAerialM: y.PerAerialM,
+			BasisExistingDuctM: y.PerDuctM, BasisStructure: y.PerStruct, BasisBuilding: y.PerBuilding, BasisCableEnd: y.PerEnd, BasisLeg: y.PerLeg}
+		all := append([]string{BasisLumpSum}, PerUnitBases()...)
+		all = append(all, BasisPercentOf)
+		var given []string
+		for _, k := range all {
+			if y.Pos.Has(k) {
+				given = append(given, k)
+			}
+		}
+		switch {
+		case len(given) > 1: // at the second basis given
+			c.bad(y.Pos, item, given[1], ErrBadValue, "want exactly one of %s, got %d (%s)", strings.Join(all, ", "), len(given), strings.Join(given, ", "))
+			continue
+		case len(given) == 0:
+			if !c.reportedItem(item) { // an unknown key, already reported, is usually the basis misspelt
+				c.bad(y.Pos, item, "id", ErrBadValue, "want one of %s besides id and description, got none", strings.Join(all, ", "))
+			}
+			continue
+		}
+		b := BidItem{ID: y.ID, Description: y.Description, Basis: given[0], Cents: int64(amounts[given[0]])}
+		if b.Basis == BasisPercentOf {
+			po := y.PercentOf
+			if !c.require(po.Pos, item, "percent", "categories") {
+				continue
+			}
+			if len(po.Categories) == 0 {
+				c.bad(po.Pos, item, "percent_of.categories", ErrBadValue, "want at least one category of %s", strings.Join(Categories(), ", "))
+				continue
+			}
+			b.PercentBP, b.Of = int64(po.Percent), c.names(po.Pos, item, "percent_of.categories", po.Categories, Categories())
+		}
+		out = append(out, b)
+	}
+	return out
 }
 
 // badPath reports a bad entry of a nested map under key, at the entry's own line. key may

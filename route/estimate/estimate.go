@@ -42,9 +42,12 @@ type Estimate struct {
 	Buildings       []Connectivity
 	Construction    Construction
 	Quantities      []media.Quantity // what the BOM prices, before merging
-	BOM             *media.BOM
-	Warnings        []string // pulls over rating, cables that fit no duct, conduit bends too tight
-	BudgetWarning   string   // the total is over the plan's budget; "" when not
+	// Bases are the quantities bid items are priced per unit of, counted once (bidBases); the
+	// zero value when the price book has no bid items.
+	Bases         media.BidBases
+	BOM           *media.BOM
+	Warnings      []string // pulls over rating, cables that fit no duct, conduit bends too tight
+	BudgetWarning string   // the total is over the plan's budget; "" when not
 }
 
 // PullSection is one pull of one cable between two pull points, in the leg's travel order
@@ -641,6 +644,52 @@ func (r *run) quantities() {
 	}
 	add(media.CategoryConstruction, "handhole for an added pull point", media.UnitEach, float64(e.AddedPullPoints),
 		media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole})
+	if len(p.BidItems) > 0 {
+		e.Bases = r.bidBases()
+		e.Quantities = append(e.Quantities, p.BidQuantities(e.Bases)...)
+	}
+}
+
+// bidBases counts, once, the quantities the price book's bid items may be priced per unit of:
+// new trench and bore metres (Construction.NewM); metres of aerial spans and of existing duct
+// spans (not opened by the plan) that feasible legs use, each span once; structure entries,
+// one per cable per structure its route passes; buildings terminating cable; cable ends, two
+// per cable; feasible legs.
+func (r *run) bidBases() media.BidBases {
+	e := r.Estimate
+	b := media.BidBases{NewBuriedM: e.Construction.NewM, Buildings: len(e.Buildings)}
+	opened := map[string]bool{}
+	for _, id := range r.Opened {
+		opened[id] = true
+	}
+	used := map[string]bool{}
+	var spans []string
+	for i := range r.Legs {
+		l := &r.Legs[i]
+		if !l.Feasible {
+			continue
+		}
+		b.Legs++
+		b.CableEnds += 2 * l.Cable.Cables
+		b.Structures += l.Cable.Structures * l.Cable.Cables
+		for _, st := range l.Steps {
+			if !used[st.SpanID] {
+				used[st.SpanID] = true
+				spans = append(spans, st.SpanID)
+			}
+		}
+	}
+	sort.Strings(spans) // in one order: a float sum depends on it
+	for _, id := range spans {
+		sp, _ := r.Site.Net.Span(id)
+		switch {
+		case sp.Type == geo.TypeAerial:
+			b.AerialM += sp.LengthM
+		case sp.Type == geo.TypeDuct && !opened[id]:
+			b.ExistingDuctM += sp.LengthM
+		}
+	}
+	return b
 }
 
 // legCost prices a leg's bill items one by one (media.PriceBook.Cents) into its breakdown:

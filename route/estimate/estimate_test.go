@@ -673,3 +673,69 @@ func TestEntranceTransition(t *testing.T) {
 		}
 	}
 }
+
+// TestBidBases counts the bases of bid items on the pull campus by hand: A reaches B along
+// the whole existing duct D (15 + 100 + 100 + 115 m, passing handhole HH-1) and C along D's
+// first 215 m and the proposed duct P, which the plan trenches; no aerial span. The demo
+// book's invented bid items are billed from them, each line its base times its rate.
+func TestBidBases(t *testing.T) {
+	t.Parallel()
+	r, err := testplan.PullSolve(t, 25, 1, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	e := r.Estimate
+	bs := e.Bases
+	legs, ends, entries := 0, 0, 0
+	for _, l := range r.Legs {
+		if l.Feasible {
+			legs++
+			ends += 2 * l.Cable.Cables
+			entries += l.Cable.Structures * l.Cable.Cables
+		}
+	}
+	if legs != 2 || ends != 4 || entries < 2 {
+		t.Fatalf("campus changed: %d legs, %d cable ends, %d structure entries; want 2, 4 and HH-1 on both", legs, ends, entries)
+	}
+	if bs.Legs != legs || bs.CableEnds != ends || bs.Structures != entries || bs.Buildings != len(e.Buildings) || bs.AerialM != 0 {
+		t.Errorf("bases %+v, want legs %d, cable ends %d, structure entries %d, buildings %d, no aerial", bs, legs, ends, entries, len(e.Buildings))
+	}
+	// D drawn 330 m long in the test projection (testsite X, Y), geodesic lengths within a
+	// metre; exactly its spans' lengths.
+	dM := 0.0
+	for _, sp := range r.Site.Net.Spans {
+		if sp.PathwayID == "D" {
+			dM += sp.LengthM
+		}
+	}
+	if math.Abs(bs.ExistingDuctM-dM) > 1e-9 || math.Abs(dM-330) > 1 || bs.NewBuriedM != e.Construction.NewM || bs.NewBuriedM <= 0 {
+		t.Errorf("existing duct used %.2f m, want D's %.2f (about 330); new buried %.2f m, want %.2f", bs.ExistingDuctM, dM, bs.NewBuriedM, e.Construction.NewM)
+	}
+	b := e.BOM
+	for item, want := range map[string]float64{
+		"mobilisation and demobilisation":               1,
+		"as-built documentation":                        1,
+		"tracer wire and warning tape, new buried work": math.Round(bs.NewBuriedM*10) / 10,
+		"utility locates, new buried work":              math.Round(bs.NewBuriedM*10) / 10,
+		"cable labelling, per cable end":                4,
+	} {
+		if got := testplan.BOMQty(b, item); got != want {
+			t.Errorf("%s: got %v, want %v", item, got, want)
+		}
+	}
+	// Project management, 4 % of the four other categories (demo book).
+	others := b.SubtotalCents - b.CategoryCents(media.CategoryBidItems)
+	var pm int64
+	for _, l := range b.Lines {
+		if l.Price == (media.PriceKey{Item: media.PriceBidItem, Name: "project-management"}) {
+			pm = l.ExtendedCents
+		}
+	}
+	if pm != media.ApplyBP(others, 400) || pm == 0 {
+		t.Errorf("project management: got %d cents, want 4 %% of %d", pm, others)
+	}
+	// Tax on material and optics only (demo book).
+	if want := b.CategoryCents(media.CategoryMaterial) + b.CategoryCents(media.CategoryOptics); b.TaxBaseCents != want {
+		t.Errorf("tax base: got %d, want material + optics %d", b.TaxBaseCents, want)
+	}
+}

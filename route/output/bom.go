@@ -5,6 +5,7 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -106,9 +107,8 @@ func bomCSV(r *route.Result, opt WriteOptions) ([]byte, error) {
 		media.FormatCents(b.SubtotalCents), media.FormatCents(b.ContingencyCents)})
 	w.Write([]string{rowOverhead, pct(b.OverheadBP) + " % of the subtotal", "%", pct(b.OverheadBP),
 		media.FormatCents(b.SubtotalCents), media.FormatCents(b.OverheadCents)})
-	taxBase := b.SubtotalCents + b.ContingencyCents + b.OverheadCents
-	w.Write([]string{rowTax, pct(b.TaxBP) + " % of subtotal, contingency and overhead", "%", pct(b.TaxBP),
-		media.FormatCents(taxBase), media.FormatCents(b.TaxCents)})
+	w.Write([]string{rowTax, pct(b.TaxBP) + " % of " + taxedWords(b), "%", pct(b.TaxBP),
+		media.FormatCents(b.TaxBaseCents), media.FormatCents(b.TaxCents)})
 	w.Write([]string{rowTotal, b.Label, "", "", "", media.FormatCents(b.TotalCents)})
 	if err := w.Flush(); err != nil {
 		return nil, err
@@ -186,6 +186,18 @@ func bomXLSX(ctx context.Context, r *route.Result, opt WriteOptions) ([]byte, er
 
 	// Bill of materials: lines, then subtotals, markups and the total, all formulas.
 	n := len(b.Lines)
+	last := max(n+1, 2)
+	catRange, extRange := fmt.Sprintf("$A$2:$A$%d", last), fmt.Sprintf("$F$2:$F$%d", last)
+	// Bid items priced as a percentage come last (Bill) and take a percentage of the lines
+	// above them: their ranges end before the first, so that no cell refers to itself.
+	above := last
+	for i, l := range b.Lines {
+		if l.PercentOf != nil {
+			above = max(i+1, 2)
+			break
+		}
+	}
+	catAbove, extAbove := fmt.Sprintf("$A$2:$A$%d", above), fmt.Sprintf("$F$2:$F$%d", above)
 	for i, l := range b.Lines {
 		row := i + 2
 		unit, qty, price := bomUnit(opt, l)
@@ -193,11 +205,19 @@ func bomXLSX(ctx context.Context, r *route.Result, opt WriteOptions) ([]byte, er
 		if unit == "ft" {
 			dp = 4
 		}
+		unitPrice := workbook.Number(price, dp)
+		if l.PercentOf != nil {
+			// A bid item priced as a percentage: its price is the percentage of its categories'
+			// lines, live, as Bill computed it.
+			var sums []string
+			for _, c := range l.PercentOf {
+				sums = append(sums, fmt.Sprintf("SUMIF(%s,%q,%s)", catAbove, c, extAbove))
+			}
+			unitPrice = workbook.Formula(fmt.Sprintf("ROUND((%s)*%s/100,2)", strings.Join(sums, "+"), pct(l.PercentBP)), 2)
+		}
 		bom.Append(workbook.Text(l.Category), workbook.Text(describe(opt, l)), workbook.Text(unit), workbook.Number(qty, dq),
-			workbook.Number(price, dp), workbook.Formula(fmt.Sprintf("ROUND(%s*%s,2)", workbook.Ref(3, row), workbook.Ref(4, row)), 2))
+			unitPrice, workbook.Formula(fmt.Sprintf("ROUND(%s*%s,2)", workbook.Ref(3, row), workbook.Ref(4, row)), 2))
 	}
-	last := max(n+1, 2)
-	catRange, extRange := fmt.Sprintf("$A$2:$A$%d", last), fmt.Sprintf("$F$2:$F$%d", last)
 	bom.Append()
 	subRow := map[string]int{}
 	for _, s := range b.Subtotal {
@@ -222,7 +242,26 @@ func bomXLSX(ctx context.Context, r *route.Result, opt WriteOptions) ([]byte, er
 	contRow := markup(rowContingency, "% of the subtotal", b.ContingencyBP, all)
 	overRow := markup(rowOverhead, "% of the subtotal", b.OverheadBP, all)
 	cont, over := workbook.Ref(5, contRow), workbook.Ref(5, overRow)
-	taxRow := markup(rowTax, "% of subtotal, contingency and overhead", b.TaxBP, all+"+"+cont+"+"+over)
+	taxBase := all + "+" + cont + "+" + over
+	if !taxesAll(b) {
+		var refs []string
+		for _, s := range b.Subtotal {
+			if slices.Contains(b.Taxed, s.Category) {
+				refs = append(refs, workbook.Ref(5, subRow[s.Category]))
+			}
+		}
+		if slices.Contains(b.Taxed, media.MarkupContingency) {
+			refs = append(refs, cont)
+		}
+		if slices.Contains(b.Taxed, media.MarkupOverhead) {
+			refs = append(refs, over)
+		}
+		taxBase = "0"
+		if len(refs) > 0 {
+			taxBase = strings.Join(refs, "+")
+		}
+	}
+	taxRow := markup(rowTax, "% of "+taxedWords(b), b.TaxBP, taxBase)
 	totalRow := bom.Rows() + 2
 	bom.Append(workbook.Text(rowTotal), workbook.Text(b.Label), workbook.Blank(), workbook.Blank(), workbook.Blank(),
 		workbook.Formula(all+"+"+cont+"+"+over+"+"+workbook.Ref(5, taxRow), 2))
@@ -352,4 +391,27 @@ func odsHeader(r *route.Result) string {
 		return "innerduct ODs (one per cable)"
 	}
 	return "cable ODs"
+}
+
+// taxesAll reports whether tax applies to every category and both markups, as a price book
+// without taxed_categories says.
+func taxesAll(b *media.BOM) bool {
+	for _, s := range b.Subtotal {
+		if !slices.Contains(b.Taxed, s.Category) {
+			return false
+		}
+	}
+	return slices.Contains(b.Taxed, media.MarkupContingency) && slices.Contains(b.Taxed, media.MarkupOverhead)
+}
+
+// taxedWords says what tax applies to: "subtotal, contingency and overhead" when it applies
+// to everything, else the taxed categories and markups, e.g. "material + optics".
+func taxedWords(b *media.BOM) string {
+	if taxesAll(b) {
+		return "subtotal, contingency and overhead"
+	}
+	if len(b.Taxed) == 0 {
+		return "nothing (no taxed categories)"
+	}
+	return strings.Join(b.Taxed, " + ")
 }

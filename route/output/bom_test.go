@@ -8,6 +8,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"slices"
 	"spanwright/media"
 	"spanwright/route/internal/testplan"
 	"spanwright/route/plan"
@@ -43,7 +44,7 @@ func TestBOMOutputsAddUp(t *testing.T) {
 	var all, cont, over, tax, total int64
 	for _, row := range rows[1:] {
 		switch row[0] {
-		case media.CategoryMaterial, media.CategoryLabour, media.CategoryConstruction, media.CategoryOptics:
+		case media.CategoryMaterial, media.CategoryLabour, media.CategoryConstruction, media.CategoryOptics, media.CategoryBidItems:
 			qty, _ := strconv.ParseFloat(row[3], 64)
 			if want := media.ExtendCents(int64(math.Round(qty*100)), cents(row[4])); cents(row[5]) != want {
 				t.Errorf("%s: extended %s, want %s", row[1], row[5], media.FormatCents(want))
@@ -66,7 +67,7 @@ func TestBOMOutputsAddUp(t *testing.T) {
 		}
 	}
 	var sum int64
-	for _, c := range media.Categories() {
+	for _, c := range append(media.Categories(), media.CategoryBidItems) {
 		if sub[c] != byCat[c] {
 			t.Errorf("%s: subtotal %d, lines sum to %d", c, sub[c], byCat[c])
 		}
@@ -74,7 +75,7 @@ func TestBOMOutputsAddUp(t *testing.T) {
 	}
 	book := r.Engine.PriceBook()
 	if all != sum || cont != media.ApplyBP(all, book.ContingencyBP) || over != media.ApplyBP(all, book.OverheadBP) ||
-		tax != media.ApplyBP(all+cont+over, book.TaxBP) || total != all+cont+over+tax {
+		tax != media.ApplyBP(taxBase(book, sub, cont, over), book.TaxBP) || total != all+cont+over+tax {
 		t.Errorf("totals: subtotal %d (sum %d), contingency %d, overhead %d, tax %d, total %d", all, sum, cont, over, tax, total)
 	}
 	s := Summarize(r)
@@ -89,6 +90,24 @@ func TestBOMOutputsAddUp(t *testing.T) {
 	if s.ModelCents != model {
 		t.Errorf("model cost: got %d, want %d", s.ModelCents, model)
 	}
+}
+
+// taxBase is what the book taxes: the subtotals of its taxed categories, and contingency
+// and overhead when taxed.
+func taxBase(book *media.PriceBook, sub map[string]int64, cont, over int64) int64 {
+	var base int64
+	for c, cents := range sub {
+		if slices.Contains(book.Taxed, c) {
+			base += cents
+		}
+	}
+	if slices.Contains(book.Taxed, media.MarkupContingency) {
+		base += cont
+	}
+	if slices.Contains(book.Taxed, media.MarkupOverhead) {
+		base += over
+	}
+	return base
 }
 
 // TestBOMWorkbook opens bom.xlsx back and checks its formulas and their results against
@@ -145,11 +164,13 @@ func TestBOMWorkbook(t *testing.T) {
 			if got := cents(num(sh, totalRef)); got != b.TotalCents {
 				t.Errorf("total: got %d, want %d", got, b.TotalCents)
 			}
-			if got := cents(num("summary", "B21")); got != b.TotalCents {
-				v, _ := x.Value("summary", "A21")
+			// The summary lists one money row per category: the total is row 21 with four.
+			sumTotal := fmt.Sprintf("B%d", 21+len(b.Subtotal)-4)
+			if got := cents(num("summary", sumTotal)); got != b.TotalCents {
+				v, _ := x.Value("summary", "A"+sumTotal[1:])
 				t.Errorf("summary %s: got %d, want total %d", v, got, b.TotalCents)
 			}
-			if got := cents(num("summary", "B23")); got != b.TotalCents-int64(r.Plan.Budget) {
+			if got := cents(num("summary", fmt.Sprintf("B%d", 23+len(b.Subtotal)-4))); got != b.TotalCents-int64(r.Plan.Budget) {
 				t.Errorf("summary over budget: got %d", got)
 			}
 			// An estimator raises the first line's unit price by 1.00 (per unit shown).
@@ -158,14 +179,35 @@ func TestBOMWorkbook(t *testing.T) {
 			if err := x.SetNumber(sh, "E2", price+1); err != nil {
 				t.Fatal(err)
 			}
+			// The first line's category moves by the edit, a bid item priced as a percentage
+			// of it too, and the markups and tax with them.
 			book := r.Engine.PriceBook()
-			sub := b.SubtotalCents + cents(math.Round(qty*(price+1)*100)/100) - b.Lines[0].ExtendedCents
+			cats := map[string]int64{}
+			for _, l := range b.Lines {
+				if l.PercentOf == nil {
+					cats[l.Category] += l.ExtendedCents
+				}
+			}
+			cats[b.Lines[0].Category] += cents(math.Round(qty*(price+1)*100)/100) - b.Lines[0].ExtendedCents
+			for _, l := range b.Lines {
+				if l.PercentOf != nil {
+					var base int64
+					for _, c := range l.PercentOf {
+						base += cats[c]
+					}
+					cats[l.Category] += media.ApplyBP(base, l.PercentBP)
+				}
+			}
+			var sub int64
+			for _, c := range cats {
+				sub += c
+			}
 			cont, over := media.ApplyBP(sub, book.ContingencyBP), media.ApplyBP(sub, book.OverheadBP)
-			moved := sub + cont + over + media.ApplyBP(sub+cont+over, book.TaxBP)
+			moved := sub + cont + over + media.ApplyBP(taxBase(book, cats, cont, over), book.TaxBP)
 			if got := cents(num(sh, totalRef)); got != moved || got == b.TotalCents {
 				t.Errorf("total after the edit: got %d, want %d (was %d)", got, moved, b.TotalCents)
 			}
-			if got := cents(num("summary", "B21")); got != moved {
+			if got := cents(num("summary", sumTotal)); got != moved {
 				t.Errorf("summary total after the edit: got %d, want %d", got, moved)
 			}
 		})
@@ -248,30 +290,39 @@ func TestBOMWorkbookOpenpyxl(t *testing.T) {
 	if err := os.WriteFile(path, testplan.FileOf(t, files, "bom.xlsx"), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	script := `import sys, openpyxl
+	// The script prices the lines itself: quantity × unit price, a percentage bid item from
+	// the categories its formula names, tax on the categories and markups argv[2] lists.
+	script := `import sys, re, openpyxl
 from decimal import Decimal, ROUND_HALF_UP
 wb = openpyxl.load_workbook(sys.argv[1])
+taxed = sys.argv[2].split(",")
 ws = wb["bill of materials"]
 cent = Decimal("0.01")
 def rnd(x): return x.quantize(cent, rounding=ROUND_HALF_UP)
-sub, pct, formulas = Decimal(0), {}, 0
+cats, pct, formulas = {}, {}, 0
 for row in ws.iter_rows(min_row=2):
     a, d, e, f = row[0].value, row[3].value, row[4].value, row[5].value
-    if a in ("material", "labour", "construction", "optics"):
-        assert isinstance(d, (int, float)) and isinstance(e, (int, float)), (a, d, e)
+    if a in ("material", "labour", "construction", "optics", "bid items"):
+        assert isinstance(d, (int, float)), (a, d)
+        if isinstance(e, str):
+            names = re.findall(r'SUMIF\([^,]*,"([^"]*)"', e)
+            p = re.search(r'\)\*([0-9.]+)/100,2\)$', e).group(1)
+            e = float(rnd(sum(cats.get(n, Decimal(0)) for n in names) * Decimal(p) / 100))
         assert f == "=ROUND(D%d*E%d,2)" % (row[0].row, row[0].row), f
-        sub += rnd(Decimal(repr(d)) * Decimal(repr(e)))
+        cats[a] = cats.get(a, Decimal(0)) + rnd(Decimal(repr(d)) * Decimal(repr(e)))
         formulas += 1
     elif a in ("contingency", "overhead", "tax"):
         pct[a] = Decimal(repr(d))
+sub = sum(cats.values())
 cont = rnd(sub * pct["contingency"] / 100)
 over = rnd(sub * pct["overhead"] / 100)
-tax = rnd((sub + cont + over) * pct["tax"] / 100)
+base = sum(v for k, v in cats.items() if k in taxed) + (cont if "contingency" in taxed else 0) + (over if "overhead" in taxed else 0)
+tax = rnd(base * pct["tax"] / 100)
 print(wb.sheetnames)
 print(formulas, int((sub + cont + over + tax) * 100))
-print(wb["summary"]["B21"].value)
+print(wb["summary"]["B%d" % (21 + len(cats) - 4)].value)
 `
-	out, err := exec.Command(py, "-c", script, path).CombinedOutput()
+	out, err := exec.Command(py, "-c", script, path, strings.Join(r.Engine.PriceBook().Taxed, ",")).CombinedOutput()
 	if err != nil {
 		t.Fatalf("openpyxl: %v\n%s", err, out)
 	}
