@@ -369,50 +369,80 @@ func (r *run) ductFill() {
 	}
 }
 
-// cover is the fewest items of the given sizes (ascending) holding n: as many of the
-// largest as fit whole, then the smallest that holds the rest. It is empty for n <= 0 or
-// no sizes.
-func cover(sizes []int, n int) map[int]int {
+// cover is the cheapest combination of the given sizes (ascending, each priced at
+// cents[size]) holding at least n ports: an unbounded min-cost cover solved exactly by
+// dynamic programming over port counts 0..n. Among equal costs it takes the fewest units,
+// then the most of the largest size, then of the next (common practice, no published
+// source). Each order is kept by adding one unit to both sides, so the best cover of c ports
+// is the best of the best cover of c-s ports plus one unit of each size s. It is empty for
+// n <= 0 or no sizes. Time O(n·k), memory O(n·k) for k sizes.
+func cover(sizes []int, cents map[int]int64, n int) map[int]int {
 	out := map[int]int{}
 	if n <= 0 || len(sizes) == 0 {
 		return out
 	}
-	big := sizes[len(sizes)-1]
-	if k := n / big; k > 0 {
-		out[big] = k
-		n -= k * big
+	type best struct {
+		cents, units int64
+		count        []int // units by size, as sizes
 	}
-	if n > 0 {
-		for _, s := range sizes {
-			if s >= n {
-				out[s]++
-				break
+	better := func(a, b best) bool {
+		if a.cents != b.cents {
+			return a.cents < b.cents
+		}
+		if a.units != b.units {
+			return a.units < b.units
+		}
+		for i := len(sizes) - 1; i >= 0; i-- {
+			if a.count[i] != b.count[i] {
+				return a.count[i] > b.count[i]
 			}
+		}
+		return false
+	}
+	dp := make([]best, n+1)
+	dp[0] = best{count: make([]int, len(sizes))}
+	for c := 1; c <= n; c++ {
+		for i, s := range sizes {
+			prev := dp[max(c-s, 0)]
+			cand := best{cents: prev.cents + cents[s], units: prev.units + 1, count: slices.Clone(prev.count)}
+			cand.count[i]++
+			if dp[c].count == nil || better(cand, dp[c]) {
+				dp[c] = cand
+			}
+		}
+	}
+	for i, k := range dp[n].count {
+		if k > 0 {
+			out[sizes[i]] = k
 		}
 	}
 	return out
 }
 
-// counts are the sizes the book prices for each item, ascending.
-func counts(p *media.PriceBook, items ...string) map[string][]int {
-	out := map[string][]int{}
+// counts are the sizes the book prices for each item, ascending, and their prices in cents.
+func counts(p *media.PriceBook, items ...string) (map[string][]int, map[string]map[int]int64) {
+	sizes, cents := map[string][]int{}, map[string]map[int]int64{}
 	for _, k := range p.Keys() {
 		for _, it := range items {
 			if k.Item == it {
-				out[it] = append(out[it], k.Count)
+				sizes[it] = append(sizes[it], k.Count)
+				if cents[it] == nil {
+					cents[it] = map[int]int64{}
+				}
+				cents[it][k.Count], _ = p.Price(k)
 			}
 		}
 	}
-	return out
+	return sizes, cents
 }
 
 // connectivity sizes what each building terminates. Each fibre cable end gets its own
-// adapter panels (the fewest covering its strands) and its pigtail splices their own
+// adapter panels (the cheapest covering its strands) and its pigtail splices their own
 // trays; a building's enclosures hold all its panel ports; copper cables share the
 // building's patch panels (common practice, no published source).
 func (r *run) connectivity() {
 	p := r.Engine.PriceBook()
-	sizes := counts(p, media.PriceAdapterPanel, media.PriceEnclosure, media.PriceCopperPanel)
+	sizes, cents := counts(p, media.PriceAdapterPanel, media.PriceEnclosure, media.PriceCopperPanel)
 	panels, encl, copper := sizes[media.PriceAdapterPanel], sizes[media.PriceEnclosure], sizes[media.PriceCopperPanel]
 	byB := map[string]*Connectivity{}
 	get := func(b string) *Connectivity {
@@ -435,7 +465,7 @@ func (r *run) connectivity() {
 				continue
 			}
 			c.FibreStrands += l.Cable.Terminated
-			for size, n := range cover(panels, l.Cable.Terminated) {
+			for size, n := range cover(panels, cents[media.PriceAdapterPanel], l.Cable.Terminated) {
 				c.AdapterPanels[size] += n
 			}
 			c.SpliceTrays += p.TraysFor(l.Cable.Terminated)
@@ -455,8 +485,8 @@ func (r *run) connectivity() {
 		if c.FibreStrands > 0 && len(panels) == 0 {
 			ports = c.FibreStrands
 		}
-		c.Enclosures = cover(encl, ports)
-		c.CopperPanels = cover(copper, c.CopperCables)
+		c.Enclosures = cover(encl, cents[media.PriceEnclosure], ports)
+		c.CopperPanels = cover(copper, cents[media.PriceCopperPanel], c.CopperCables)
 		r.Estimate.Buildings = append(r.Estimate.Buildings, *c)
 	}
 }
