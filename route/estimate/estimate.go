@@ -141,6 +141,35 @@ type Input struct {
 type run struct {
 	Input
 	Estimate *Estimate
+	// newFrom names the spans of each line of new construction, for the bill's From: by
+	// trench surface, and under keyBore and keyAddedDuct.
+	newFrom map[string][]string
+}
+
+// Keys of run.newFrom beside the trench surfaces.
+const (
+	keyBore      = "\x00bore"
+	keyAddedDuct = "\x00added duct"
+)
+
+// Sources of bill quantities (media.Quantity.From).
+func fromLeg(l *routing.Leg) string { return "leg " + l.Link.ID + "/" + l.Name }
+func fromBuilding(b string) string  { return "building " + b }
+func fromSpan(id string) string     { return "span " + id }
+func fromJunctions(ids []string) []string {
+	out := make([]string, len(ids))
+	for i, id := range ids {
+		out[i] = "junction " + id
+	}
+	return out
+}
+
+// sourced sets the From of every quantity of qs to from.
+func sourced(qs []media.Quantity, from []string) []media.Quantity {
+	for i := range qs {
+		qs[i].From = from
+	}
+	return qs
 }
 
 // Build builds the installation takeoff and prices it: pulling plans, duct fill,
@@ -491,13 +520,17 @@ func (r *run) connectivity() {
 	}
 }
 
-// newWork counts new work along a span: bored, or trenched on its surface.
-func (c *Construction) newWork(sp *geo.Span) {
+// newWork counts new work along a span: bored, or trenched on its surface; from records the
+// span under its line.
+func (c *Construction) newWork(sp *geo.Span, from map[string][]string) {
 	if sp.Method == geo.MethodBore {
 		c.BoreM += sp.LengthM
+		from[keyBore] = append(from[keyBore], fromSpan(sp.ID))
 		return
 	}
-	c.TrenchM[items.SurfaceOf(sp)] += sp.LengthM
+	sf := items.SurfaceOf(sp)
+	c.TrenchM[sf] += sp.LengthM
+	from[sf] = append(from[sf], fromSpan(sp.ID))
 }
 
 // construction totals the new civil work: opened spans (trench and restoration on their
@@ -507,11 +540,13 @@ func (c *Construction) newWork(sp *geo.Span) {
 func (r *run) construction() {
 	s := r.Site
 	c := Construction{TrenchM: map[string]float64{}}
+	r.newFrom = map[string][]string{}
 	for _, id := range r.Opened {
 		sp, _ := s.Net.Span(id)
-		c.newWork(&sp)
+		c.newWork(&sp, r.newFrom)
 		if sp.Type == geo.TypeDuct {
 			c.AddedDuctM += sp.LengthM
+			r.newFrom[keyAddedDuct] = append(r.newFrom[keyAddedDuct], fromSpan(id))
 		}
 	}
 	// The handholes are the routing's (routing.Routed.Handholes): the optimizer's charges it
@@ -526,8 +561,9 @@ func (r *run) construction() {
 	for _, f := range r.Fill {
 		if f.AddedDucts > 0 {
 			sp, _ := s.Net.Span(f.Span)
-			c.newWork(&sp)
+			c.newWork(&sp, r.newFrom)
 			c.AddedDuctM += float64(f.AddedDucts) * sp.LengthM
+			r.newFrom[keyAddedDuct] = append(r.newFrom[keyAddedDuct], fromSpan(f.Span))
 		}
 	}
 	c.NewM = c.BoreM
@@ -631,10 +667,11 @@ func (r *run) quantities() {
 			c := legCost(p, items)
 			c.ConstructionCents += l.Cost.ConstructionCents
 			l.Cost = c
-			e.Quantities = append(e.Quantities, items...)
+			e.Quantities = append(e.Quantities, sourced(items, []string{fromLeg(l)})...)
 		}
 	}
 	for _, c := range e.Buildings {
+		first := len(e.Quantities)
 		for _, size := range slices.Sorted(maps.Keys(c.AdapterPanels)) {
 			add(media.CategoryMaterial, fmt.Sprintf("adapter panel, %d ports", size), media.UnitEach, float64(c.AdapterPanels[size]), media.PriceKey{Item: media.PriceAdapterPanel, Count: size})
 		}
@@ -656,20 +693,33 @@ func (r *run) quantities() {
 		if c.SpliceTrays > 0 {
 			add(media.CategoryMaterial, fmt.Sprintf("splice tray, %d splices", p.TraySplices()), media.UnitEach, float64(c.SpliceTrays), media.PriceKey{Item: media.PriceSpliceTray})
 		}
+		sourced(e.Quantities[first:], []string{fromBuilding(c.Building)})
 	}
 	con := e.Construction
 	for _, sf := range slices.Sorted(maps.Keys(con.TrenchM)) {
-		e.Quantities = append(e.Quantities, items.Trench(sf, con.TrenchM[sf])...)
+		e.Quantities = append(e.Quantities, sourced(items.Trench(sf, con.TrenchM[sf]), r.newFrom[sf])...)
+	}
+	one := func(q media.Quantity, from []string) media.Quantity {
+		q.From = from
+		return q
 	}
 	if con.BoreM > 0 { // a price book without bores stays valid while no plan bores
-		e.Quantities = append(e.Quantities, items.Bore(con.BoreM))
+		e.Quantities = append(e.Quantities, one(items.Bore(con.BoreM), r.newFrom[keyBore]))
 	}
-	e.Quantities = append(e.Quantities, items.AddedDuct(con.AddedDuctM), items.JoinHandholes(len(con.NewJunctions)))
+	e.Quantities = append(e.Quantities, one(items.AddedDuct(con.AddedDuctM), r.newFrom[keyAddedDuct]),
+		one(items.JoinHandholes(len(con.NewJunctions)), fromJunctions(con.NewJunctions)))
 	if len(con.TurnJunctions) > 0 { // a price book without handholes stays valid while no route turns
-		e.Quantities = append(e.Quantities, items.TurnHandholes(len(con.TurnJunctions)))
+		e.Quantities = append(e.Quantities, one(items.TurnHandholes(len(con.TurnJunctions)), fromJunctions(con.TurnJunctions)))
 	}
-	add(media.CategoryConstruction, "handhole for an added pull point", media.UnitEach, float64(e.AddedPullPoints),
-		media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole})
+	// The added pull points come from the pulls of the legs that need them.
+	var pulled []string
+	for _, ps := range e.Pulls {
+		if ps.AddedFrom || ps.AddedTo {
+			pulled = append(pulled, fromLeg(&r.Legs[ps.Leg]))
+		}
+	}
+	e.Quantities = append(e.Quantities, media.Quantity{Category: media.CategoryConstruction, Item: "handhole for an added pull point",
+		Unit: media.UnitEach, Amount: float64(e.AddedPullPoints), Price: media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole}, From: pulled})
 }
 
 // legCost prices a leg's bill items one by one (media.PriceBook.Cents) into its breakdown:

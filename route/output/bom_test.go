@@ -28,7 +28,7 @@ func TestBOMOutputsAddUp(t *testing.T) {
 		t.Fatal(err)
 	}
 	rows := testplan.ReadCSV(t, testplan.FileOf(t, files, "bom.csv"))
-	if got := strings.Join(rows[0], ","); got != "category,item,unit,quantity,unit_price_usd,extended_usd" {
+	if got := strings.Join(rows[0], ","); got != "category,item,unit,quantity,unit_price_usd,extended_usd,from" { // "from" last, so no earlier column moves
 		t.Fatalf("header: %s", got)
 	}
 	cents := func(s string) int64 {
@@ -49,6 +49,9 @@ func TestBOMOutputsAddUp(t *testing.T) {
 				t.Errorf("%s: extended %s, want %s", row[1], row[5], media.FormatCents(want))
 			}
 			byCat[row[0]] += cents(row[5])
+			if row[6] == "" {
+				t.Errorf("%s: no sources in from", row[1])
+			}
 		case rowSubtotal:
 			if row[1] == "all categories" {
 				all = cents(row[5])
@@ -135,6 +138,13 @@ func TestBOMWorkbook(t *testing.T) {
 				if got := cents(num(sh, fmt.Sprintf("F%d", row))); got != l.ExtendedCents {
 					t.Errorf("%s: extended %d, want %d", l.Item, got, l.ExtendedCents)
 				}
+				// The sources last, after the live formulas, as in bom.csv.
+				if got, _ := x.Value(sh, fmt.Sprintf("G%d", row)); got != strings.Join(l.From, "; ") || got == "" {
+					t.Errorf("%s: from %q, want %q", l.Item, got, strings.Join(l.From, "; "))
+				}
+			}
+			if h, _ := x.Value(sh, "G1"); h != "from" {
+				t.Errorf("G1: %q, want from", h)
 			}
 			n := len(b.Lines)
 			totalRow := n + 1 + 1 + len(b.Subtotal) + 5 // lines, a blank row, subtotals, all, three markups, total
