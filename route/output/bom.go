@@ -7,6 +7,7 @@ import (
 	"math"
 	"strconv"
 	"strings"
+	"unicode/utf8"
 
 	"spanwright/media"
 	"spanwright/media/install"
@@ -79,6 +80,29 @@ func pct(bp int64) string { return strconv.FormatFloat(float64(bp)/100, 'f', 2, 
 // fromText is a BOM line's sources (media.BOMLine.From) as one cell, separated by "; " as
 // each source has a space in it ("leg L-1/primary").
 func fromText(l media.BOMLine) string { return strings.Join(l.From, "; ") }
+
+// xlCellChars is the most characters a workbook cell holds (Excel specifications and
+// limits: 32,767 characters in a cell; the writer cuts longer text off silently), less room
+// for the note fromCell adds.
+const xlCellChars = 32767 - 100
+
+// fromCell is fromText for a workbook cell: when the sources do not fit one cell it keeps
+// as many whole sources as fit and says how many more bom.csv lists.
+func fromCell(l media.BOMLine) string {
+	text := fromText(l)
+	if utf8.RuneCountInString(text) <= xlCellChars {
+		return text
+	}
+	n, kept := 0, 0
+	for _, f := range l.From {
+		if n+utf8.RuneCountInString(f)+2 > xlCellChars {
+			break
+		}
+		n += utf8.RuneCountInString(f) + 2
+		kept++
+	}
+	return fmt.Sprintf("%s; and %d more, all in bom.csv", strings.Join(l.From[:kept], "; "), len(l.From)-kept)
+}
 
 // bomCSV renders bom.csv: one row per line (category, item, unit, quantity, unit price,
 // extended price, and last the legs, buildings, spans or junctions it comes from), then a subtotal row per category and for all, contingency, overhead,
@@ -199,7 +223,7 @@ func bomXLSX(ctx context.Context, r *route.Result, opt WriteOptions) ([]byte, er
 		}
 		bom.Append(workbook.Text(l.Category), workbook.Text(describe(opt, l)), workbook.Text(unit), workbook.Number(qty, dq),
 			workbook.Number(price, dp), workbook.Formula(fmt.Sprintf("ROUND(%s*%s,2)", workbook.Ref(3, row), workbook.Ref(4, row)), 2),
-			workbook.Text(fromText(l)))
+			workbook.Text(fromCell(l)))
 	}
 	last := max(n+1, 2)
 	catRange, extRange := fmt.Sprintf("$A$2:$A$%d", last), fmt.Sprintf("$F$2:$F$%d", last)

@@ -292,3 +292,29 @@ print(wb["summary"]["B21"].value)
 		t.Errorf("openpyxl read:\n%s\nwant:\n%s", out, want)
 	}
 }
+
+// TestFromCellFits: a line with more sources than a workbook cell holds (Excel
+// specifications and limits: 32,767 characters in a cell) keeps whole sources and says how
+// many more bom.csv lists; a short list is kept whole.
+func TestFromCellFits(t *testing.T) {
+	t.Parallel()
+	l := media.BOMLine{From: []string{"leg A-B/primary", "leg A-C/primary"}}
+	if got := fromCell(l); got != "leg A-B/primary; leg A-C/primary" {
+		t.Errorf("short: %q", got)
+	}
+	l.From = nil
+	for i := range 5000 {
+		l.From = append(l.From, fmt.Sprintf("leg L%05d/primary", i))
+	}
+	got := fromCell(l)
+	if len(got) > 32767 || !strings.HasSuffix(got, " more, all in bom.csv") {
+		t.Fatalf("long: %d characters, ends %q", len(got), got[len(got)-40:])
+	}
+	var kept, more int
+	head, _, _ := strings.Cut(got, "; and ")
+	kept = len(strings.Split(head, "; "))
+	if _, err := fmt.Sscanf(got[len(head):], "; and %d more", &more); err != nil || kept+more != 5000 ||
+		strings.Split(head, "; ")[kept-1] != l.From[kept-1] {
+		t.Errorf("long: kept %d, %d more (%v), want 5,000 in all, whole sources", kept, more, err)
+	}
+}
