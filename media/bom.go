@@ -2,7 +2,9 @@ package media
 
 import (
 	"fmt"
+	"maps"
 	"math"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -47,6 +49,10 @@ type Quantity struct {
 	// line is then billed in hours, Amount / rate rounded up to 0.01 h, at Price (normally
 	// PriceLabourHour).
 	Rate PriceKey
+	// From names what the quantity comes from, so that an estimator can trace a bill line back
+	// to it: e.g. "leg L-1/primary", "building ENG", "span S-4", "junction J-2". Bill lists
+	// every line's sources; it does not take part in merging quantities into lines.
+	From []string
 }
 
 // BOMLine is one priced line of a bill of materials.
@@ -69,6 +75,8 @@ type BOMLine struct {
 	// of the lines of the categories PercentOf (a workbook writes it as that formula).
 	PercentBP int64
 	PercentOf []string
+	// From is the distinct sources (Quantity.From) of the line's quantities, sorted.
+	From []string
 }
 
 // Subtotal is the sum of the extended prices of one category, in cents.
@@ -133,13 +141,14 @@ type lineKey struct {
 }
 
 // Bill prices quantities from the book into a BOM. It merges quantities that differ only in
-// Amount, drops those that come to nothing, and reports at once, as an *input.Problems, every
+// Amount and From (a line's From is its quantities' sources, distinct and sorted), drops those that come to nothing, and reports at once, as an *input.Problems, every
 // price or labour rate the book lacks (each an *input.Problem with ErrMissingPrice naming the
 // key and the path to add it at) and every malformed quantity (unknown category or unit,
 // amount not finite and >= 0, ErrBadValue). Time O(Q log Q) for Q quantities.
 func (p *PriceBook) Bill(qs []Quantity) (*BOM, error) {
 	var errs input.Problems
 	sums := map[lineKey]float64{}
+	from := map[lineKey]map[string]bool{}
 	var keys []lineKey
 	var needs []PriceKey
 	for i, q := range qs {
@@ -159,6 +168,15 @@ func (p *PriceBook) Bill(qs []Quantity) (*BOM, error) {
 			}
 		}
 		sums[k] += q.Amount
+		for _, f := range q.From {
+			if q.Amount == 0 {
+				break // a source that puts nothing on the line is not one of its sources
+			}
+			if from[k] == nil {
+				from[k] = map[string]bool{}
+			}
+			from[k][f] = true
+		}
 	}
 	if err := p.Check(needs); err != nil {
 		errs.Add(err)
@@ -193,6 +211,9 @@ func (p *PriceBook) Bill(qs []Quantity) (*BOM, error) {
 		}
 		line.Quantity = float64(hundredths) / 100
 		line.ExtendedCents = ExtendCents(hundredths, unitCents)
+		if len(from[k]) > 0 {
+			line.From = slices.Sorted(maps.Keys(from[k]))
+		}
 		b.Lines = append(b.Lines, line)
 	}
 	sort.Slice(b.Lines, func(i, j int) bool {
@@ -233,6 +254,7 @@ func (b *BOM) percentItems(items []BidItem) {
 		}
 		b.Lines = append(b.Lines, BOMLine{Category: CategoryBidItems, Unit: UnitEach, Quantity: 1, UnitCents: c, ExtendedCents: c,
 			Price: PriceKey{Item: PriceBidItem, Name: it.ID}, PercentBP: it.PercentBP, PercentOf: it.Of,
+			From: []string{"categories " + strings.Join(it.Of, ", ")}, // what the percentage is of
 			Item: fmt.Sprintf("%s, %s %% of %s %s", it.Description, strconv.FormatFloat(float64(it.PercentBP)/100, 'f', -1, 64), strings.Join(it.Of, " + "), FormatCents(base))})
 	}
 }

@@ -224,3 +224,54 @@ func TestBillErrors(t *testing.T) {
 		t.Errorf("Has: wrong answer for patch cords or trench")
 	}
 }
+
+// TestBillFrom: a line's sources are the distinct sources of its quantities, sorted; a
+// quantity of nothing is not a source; sources change neither the lines nor the totals
+// (the project's own rule for traceable bills).
+func TestBillFrom(t *testing.T) {
+	t.Parallel()
+	p := DefaultPriceBook()
+	cable := func(m float64, from ...string) Quantity {
+		return Quantity{Category: CategoryMaterial, Item: "cable", Unit: UnitM, Amount: m,
+			Price: PriceKey{Item: PriceCable, Medium: "os2", Construction: "osp-loose-tube", Count: 12}, From: from}
+	}
+	tray := func(n float64, from ...string) Quantity {
+		return Quantity{Category: CategoryMaterial, Item: "splice tray", Unit: UnitEach, Amount: n, Price: PriceKey{Item: PriceSpliceTray}, From: from}
+	}
+	qs := []Quantity{cable(100, "leg B-C/primary"), tray(2, "building B"), cable(50, "leg A-B/primary"),
+		cable(0, "leg Z-Z/primary"), cable(25, "leg B-C/primary"), tray(1, "building A", "building B"), tray(0, "building Z")}
+	b, err := p.Bill(qs)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := map[string]string{"cable": "leg A-B/primary,leg B-C/primary", "splice tray": "building A,building B"}
+	for _, l := range b.Lines {
+		if l.PercentBP > 0 {
+			// A bid item priced as a percentage comes from the categories it is of.
+			if got := strings.Join(l.From, ","); got != "categories "+strings.Join(l.PercentOf, ", ") {
+				t.Errorf("%s: from %q", l.Item, got)
+			}
+			continue
+		}
+		if got := strings.Join(l.From, ","); got != want[l.Item] {
+			t.Errorf("%s: from %q, want %q", l.Item, got, want[l.Item])
+		}
+	}
+	bare := make([]Quantity, len(qs))
+	for i, q := range qs {
+		q.From = nil
+		bare[i] = q
+	}
+	nb, err := p.Bill(bare)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(nb.Lines) != len(b.Lines) || nb.TotalCents != b.TotalCents {
+		t.Fatalf("with sources %d lines, total %d; without %d lines, total %d", len(b.Lines), b.TotalCents, len(nb.Lines), nb.TotalCents)
+	}
+	for i := range b.Lines {
+		if b.Lines[i].Item != nb.Lines[i].Item || b.Lines[i].ExtendedCents != nb.Lines[i].ExtendedCents {
+			t.Errorf("line %d: %+v, without sources %+v", i, b.Lines[i], nb.Lines[i])
+		}
+	}
+}

@@ -144,6 +144,35 @@ type Input struct {
 type run struct {
 	Input
 	Estimate *Estimate
+	// newFrom names the spans of each line of new construction, for the bill's From: by
+	// trench surface, and under keyBore and keyAddedDuct.
+	newFrom map[string][]string
+}
+
+// Keys of run.newFrom beside the trench surfaces.
+const (
+	keyBore      = "\x00bore"
+	keyAddedDuct = "\x00added duct"
+)
+
+// Sources of bill quantities (media.Quantity.From).
+func fromLeg(l *routing.Leg) string { return "leg " + l.Link.ID + "/" + l.Name }
+func fromBuilding(b string) string  { return "building " + b }
+func fromSpan(id string) string     { return "span " + id }
+func fromJunctions(ids []string) []string {
+	out := make([]string, len(ids))
+	for i, id := range ids {
+		out[i] = "junction " + id
+	}
+	return out
+}
+
+// sourced sets the From of every quantity of qs to from.
+func sourced(qs []media.Quantity, from []string) []media.Quantity {
+	for i := range qs {
+		qs[i].From = from
+	}
+	return qs
 }
 
 // Build builds the installation takeoff and prices it: pulling plans, duct fill,
@@ -372,50 +401,80 @@ func (r *run) ductFill() {
 	}
 }
 
-// cover is the fewest items of the given sizes (ascending) holding n: as many of the
-// largest as fit whole, then the smallest that holds the rest. It is empty for n <= 0 or
-// no sizes.
-func cover(sizes []int, n int) map[int]int {
+// cover is the cheapest combination of the given sizes (ascending, each priced at
+// cents[size]) holding at least n ports: an unbounded min-cost cover solved exactly by
+// dynamic programming over port counts 0..n. Among equal costs it takes the fewest units,
+// then the most of the largest size, then of the next (common practice, no published
+// source). Each order is kept by adding one unit to both sides, so the best cover of c ports
+// is the best of the best cover of c-s ports plus one unit of each size s. It is empty for
+// n <= 0 or no sizes. Time O(n·k), memory O(n·k) for k sizes.
+func cover(sizes []int, cents map[int]int64, n int) map[int]int {
 	out := map[int]int{}
 	if n <= 0 || len(sizes) == 0 {
 		return out
 	}
-	big := sizes[len(sizes)-1]
-	if k := n / big; k > 0 {
-		out[big] = k
-		n -= k * big
+	type best struct {
+		cents, units int64
+		count        []int // units by size, as sizes
 	}
-	if n > 0 {
-		for _, s := range sizes {
-			if s >= n {
-				out[s]++
-				break
+	better := func(a, b best) bool {
+		if a.cents != b.cents {
+			return a.cents < b.cents
+		}
+		if a.units != b.units {
+			return a.units < b.units
+		}
+		for i := len(sizes) - 1; i >= 0; i-- {
+			if a.count[i] != b.count[i] {
+				return a.count[i] > b.count[i]
 			}
+		}
+		return false
+	}
+	dp := make([]best, n+1)
+	dp[0] = best{count: make([]int, len(sizes))}
+	for c := 1; c <= n; c++ {
+		for i, s := range sizes {
+			prev := dp[max(c-s, 0)]
+			cand := best{cents: prev.cents + cents[s], units: prev.units + 1, count: slices.Clone(prev.count)}
+			cand.count[i]++
+			if dp[c].count == nil || better(cand, dp[c]) {
+				dp[c] = cand
+			}
+		}
+	}
+	for i, k := range dp[n].count {
+		if k > 0 {
+			out[sizes[i]] = k
 		}
 	}
 	return out
 }
 
-// counts are the sizes the book prices for each item, ascending.
-func counts(p *media.PriceBook, items ...string) map[string][]int {
-	out := map[string][]int{}
+// counts are the sizes the book prices for each item, ascending, and their prices in cents.
+func counts(p *media.PriceBook, items ...string) (map[string][]int, map[string]map[int]int64) {
+	sizes, cents := map[string][]int{}, map[string]map[int]int64{}
 	for _, k := range p.Keys() {
 		for _, it := range items {
 			if k.Item == it {
-				out[it] = append(out[it], k.Count)
+				sizes[it] = append(sizes[it], k.Count)
+				if cents[it] == nil {
+					cents[it] = map[int]int64{}
+				}
+				cents[it][k.Count], _ = p.Price(k)
 			}
 		}
 	}
-	return out
+	return sizes, cents
 }
 
 // connectivity sizes what each building terminates. Each fibre cable end gets its own
-// adapter panels (the fewest covering its strands) and its pigtail splices their own
+// adapter panels (the cheapest covering its strands) and its pigtail splices their own
 // trays; a building's enclosures hold all its panel ports; copper cables share the
 // building's patch panels (common practice, no published source).
 func (r *run) connectivity() {
 	p := r.Engine.PriceBook()
-	sizes := counts(p, media.PriceAdapterPanel, media.PriceEnclosure, media.PriceCopperPanel)
+	sizes, cents := counts(p, media.PriceAdapterPanel, media.PriceEnclosure, media.PriceCopperPanel)
 	panels, encl, copper := sizes[media.PriceAdapterPanel], sizes[media.PriceEnclosure], sizes[media.PriceCopperPanel]
 	byB := map[string]*Connectivity{}
 	get := func(b string) *Connectivity {
@@ -438,7 +497,7 @@ func (r *run) connectivity() {
 				continue
 			}
 			c.FibreStrands += l.Cable.Terminated
-			for size, n := range cover(panels, l.Cable.Terminated) {
+			for size, n := range cover(panels, cents[media.PriceAdapterPanel], l.Cable.Terminated) {
 				c.AdapterPanels[size] += n
 			}
 			c.SpliceTrays += p.TraysFor(l.Cable.Terminated)
@@ -458,20 +517,23 @@ func (r *run) connectivity() {
 		if c.FibreStrands > 0 && len(panels) == 0 {
 			ports = c.FibreStrands
 		}
-		c.Enclosures = cover(encl, ports)
-		c.CopperPanels = cover(copper, c.CopperCables)
+		c.Enclosures = cover(encl, cents[media.PriceEnclosure], ports)
+		c.CopperPanels = cover(copper, cents[media.PriceCopperPanel], c.CopperCables)
 		r.Estimate.Buildings = append(r.Estimate.Buildings, *c)
 	}
 }
 
 // newWork counts new work along a span built by method (items.MethodOf): bored, or trenched
-// on its surface.
-func (c *Construction) newWork(sp *geo.Span, method string) {
+// on its surface; from records the span under its line.
+func (c *Construction) newWork(sp *geo.Span, method string, from map[string][]string) {
 	if method == geo.MethodBore {
 		c.BoreM += sp.LengthM
+		from[keyBore] = append(from[keyBore], fromSpan(sp.ID))
 		return
 	}
-	c.TrenchM[items.SurfaceOf(sp)] += sp.LengthM
+	sf := items.SurfaceOf(sp)
+	c.TrenchM[sf] += sp.LengthM
+	from[sf] = append(from[sf], fromSpan(sp.ID))
 }
 
 // construction totals the new civil work: opened spans (trench and restoration on their
@@ -481,11 +543,13 @@ func (c *Construction) newWork(sp *geo.Span, method string) {
 func (r *run) construction() {
 	s := r.Site
 	c := Construction{TrenchM: map[string]float64{}}
+	r.newFrom = map[string][]string{}
 	for _, id := range r.Opened {
 		sp, _ := s.Net.Span(id)
-		c.newWork(&sp, items.MethodOf(r.Engine.PriceBook(), &sp))
+		c.newWork(&sp, items.MethodOf(r.Engine.PriceBook(), &sp), r.newFrom)
 		if sp.Type == geo.TypeDuct {
 			c.AddedDuctM += sp.LengthM
+			r.newFrom[keyAddedDuct] = append(r.newFrom[keyAddedDuct], fromSpan(id))
 		}
 	}
 	// The handholes are the routing's (routing.Routed.Handholes): the optimizer's charges it
@@ -500,8 +564,9 @@ func (r *run) construction() {
 	for _, f := range r.Fill {
 		if f.AddedDucts > 0 {
 			sp, _ := s.Net.Span(f.Span)
-			c.newWork(&sp, items.MethodOf(r.Engine.PriceBook(), &sp))
+			c.newWork(&sp, items.MethodOf(r.Engine.PriceBook(), &sp), r.newFrom)
 			c.AddedDuctM += float64(f.AddedDucts) * sp.LengthM
+			r.newFrom[keyAddedDuct] = append(r.newFrom[keyAddedDuct], fromSpan(f.Span))
 		}
 	}
 	c.NewM = c.BoreM
@@ -605,10 +670,11 @@ func (r *run) quantities() {
 			c := legCost(p, items)
 			c.ConstructionCents += l.Cost.ConstructionCents
 			l.Cost = c
-			e.Quantities = append(e.Quantities, items...)
+			e.Quantities = append(e.Quantities, sourced(items, []string{fromLeg(l)})...)
 		}
 	}
 	for _, c := range e.Buildings {
+		first := len(e.Quantities)
 		for _, size := range slices.Sorted(maps.Keys(c.AdapterPanels)) {
 			add(media.CategoryMaterial, fmt.Sprintf("adapter panel, %d ports", size), media.UnitEach, float64(c.AdapterPanels[size]), media.PriceKey{Item: media.PriceAdapterPanel, Count: size})
 		}
@@ -630,23 +696,39 @@ func (r *run) quantities() {
 		if c.SpliceTrays > 0 {
 			add(media.CategoryMaterial, fmt.Sprintf("splice tray, %d splices", p.TraySplices()), media.UnitEach, float64(c.SpliceTrays), media.PriceKey{Item: media.PriceSpliceTray})
 		}
+		sourced(e.Quantities[first:], []string{fromBuilding(c.Building)})
 	}
 	con := e.Construction
 	for _, sf := range slices.Sorted(maps.Keys(con.TrenchM)) {
-		e.Quantities = append(e.Quantities, items.Trench(sf, con.TrenchM[sf])...)
+		e.Quantities = append(e.Quantities, sourced(items.Trench(sf, con.TrenchM[sf]), r.newFrom[sf])...)
+	}
+	one := func(q media.Quantity, from []string) media.Quantity {
+		q.From = from
+		return q
 	}
 	if con.BoreM > 0 { // a price book without bores stays valid while no plan bores
-		e.Quantities = append(e.Quantities, items.Bore(con.BoreM))
+		e.Quantities = append(e.Quantities, one(items.Bore(con.BoreM), r.newFrom[keyBore]))
 	}
-	e.Quantities = append(e.Quantities, items.AddedDuct(con.AddedDuctM), items.JoinHandholes(len(con.NewJunctions)))
+	e.Quantities = append(e.Quantities, one(items.AddedDuct(con.AddedDuctM), r.newFrom[keyAddedDuct]),
+		one(items.JoinHandholes(len(con.NewJunctions)), fromJunctions(con.NewJunctions)))
 	if len(con.TurnJunctions) > 0 { // a price book without handholes stays valid while no route turns
-		e.Quantities = append(e.Quantities, items.TurnHandholes(len(con.TurnJunctions)))
+		e.Quantities = append(e.Quantities, one(items.TurnHandholes(len(con.TurnJunctions)), fromJunctions(con.TurnJunctions)))
 	}
-	add(media.CategoryConstruction, "handhole for an added pull point", media.UnitEach, float64(e.AddedPullPoints),
-		media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole})
+	// The added pull points come from the pulls of the legs that need them.
+	var pulled []string
+	for _, ps := range e.Pulls {
+		if ps.AddedFrom || ps.AddedTo {
+			pulled = append(pulled, fromLeg(&r.Legs[ps.Leg]))
+		}
+	}
+	e.Quantities = append(e.Quantities, media.Quantity{Category: media.CategoryConstruction, Item: "handhole for an added pull point",
+		Unit: media.UnitEach, Amount: float64(e.AddedPullPoints), Price: media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole}, From: pulled})
 	if len(p.BidItems) > 0 {
 		e.Bases = r.bidBases()
-		e.Quantities = append(e.Quantities, p.BidQuantities(e.Bases)...)
+		for _, q := range p.BidQuantities(e.Bases) {
+			q.From = []string{"plan"} // the whole plan's: its bases are counted over every leg and span
+			e.Quantities = append(e.Quantities, q)
+		}
 	}
 }
 

@@ -5,9 +5,11 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"maps"
 	"math"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 
@@ -737,5 +739,70 @@ func TestBidBases(t *testing.T) {
 	// Tax on material and optics only (demo book).
 	if want := b.CategoryCents(media.CategoryMaterial) + b.CategoryCents(media.CategoryOptics); b.TaxBaseCents != want {
 		t.Errorf("tax base: got %d, want material + optics %d", b.TaxBaseCents, want)
+	}
+}
+
+// TestBillLinesTraced is TestConstruction's campus read for where each bill line comes from:
+// the termination and transceiver lines name exactly the feasible legs of their medium and
+// transceiver, each enclosure line the buildings given that size, the asphalt trench the
+// opened span, the turf trench the spans given a duct, the added duct both, and the join
+// handhole its junction (the project's own rule for traceable bills).
+func TestBillLinesTraced(t *testing.T) {
+	t.Parallel()
+	// P's method given as trench, as in TestConstruction.
+	campus := strings.Replace(testsite.PullCampus(25, 1), `"surface":"asphalt"`, `"surface":"asphalt","method":"trench"`, 1)
+	r, err := testplan.PullSolveJSON(t, campus, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	e := r.Estimate
+	set := map[string]map[string]bool{}
+	put := func(line, from string) {
+		if set[line] == nil {
+			set[line] = map[string]bool{}
+		}
+		set[line][from] = true
+	}
+	for i := range r.Legs {
+		l := &r.Legs[i]
+		if !l.Feasible {
+			continue
+		}
+		leg := "leg " + l.Link.ID + "/" + l.Name
+		put("termination "+l.Medium+", per strand end", leg)
+		put("transceiver "+r.Engine.Catalog().Application(l.Application).Transceiver, leg)
+	}
+	for _, c := range e.Buildings {
+		for size := range c.Enclosures {
+			put(fmt.Sprintf("fibre enclosure, %d ports", size), "building "+c.Building)
+		}
+	}
+	put("trench, asphalt", "span "+r.Opened[0])
+	put("added duct", "span "+r.Opened[0])
+	for _, f := range r.Fill {
+		if f.AddedDucts > 0 {
+			put("trench, turf", "span "+f.Span)
+			put("added duct", "span "+f.Span)
+		}
+	}
+	put("handhole where new pathway joins the network", "junction "+e.Construction.NewJunctions[0])
+	if len(set["trench, turf"]) == 0 || len(set["transceiver 10GBASE-LR"]) < 2 {
+		t.Fatalf("campus changed: expected sources %v", set)
+	}
+	for item, want := range set {
+		l, ok := testplan.BOMLine(e.BOM, item)
+		if !ok {
+			t.Errorf("%s: no line", item)
+			continue
+		}
+		if got, w := strings.Join(l.From, "; "), strings.Join(slices.Sorted(maps.Keys(want)), "; "); got != w {
+			t.Errorf("%s: from %q, want %q", item, got, w)
+		}
+	}
+	// Every line says where it comes from.
+	for _, l := range e.BOM.Lines {
+		if len(l.From) == 0 {
+			t.Errorf("%s: no source", l.Item)
+		}
 	}
 }

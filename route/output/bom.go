@@ -8,6 +8,7 @@ import (
 	"slices"
 	"strconv"
 	"strings"
+	"unicode/utf8"
 
 	"spanwright/media"
 	"spanwright/media/install"
@@ -77,8 +78,35 @@ func describe(opt WriteOptions, l media.BOMLine) string {
 
 func pct(bp int64) string { return strconv.FormatFloat(float64(bp)/100, 'f', 2, 64) }
 
+// fromText is a BOM line's sources (media.BOMLine.From) as one cell, separated by "; " as
+// each source has a space in it ("leg L-1/primary").
+func fromText(l media.BOMLine) string { return strings.Join(l.From, "; ") }
+
+// xlCellChars is the most characters a workbook cell holds (Excel specifications and
+// limits: 32,767 characters in a cell; the writer cuts longer text off silently), less room
+// for the note fromCell adds.
+const xlCellChars = 32767 - 100
+
+// fromCell is fromText for a workbook cell: when the sources do not fit one cell it keeps
+// as many whole sources as fit and says how many more bom.csv lists.
+func fromCell(l media.BOMLine) string {
+	text := fromText(l)
+	if utf8.RuneCountInString(text) <= xlCellChars {
+		return text
+	}
+	n, kept := 0, 0
+	for _, f := range l.From {
+		if n+utf8.RuneCountInString(f)+2 > xlCellChars {
+			break
+		}
+		n += utf8.RuneCountInString(f) + 2
+		kept++
+	}
+	return fmt.Sprintf("%s; and %d more, all in bom.csv", strings.Join(l.From[:kept], "; "), len(l.From)-kept)
+}
+
 // bomCSV renders bom.csv: one row per line (category, item, unit, quantity, unit price,
-// extended price), then a subtotal row per category and for all, contingency, overhead,
+// extended price, and last the legs, buildings, spans or junctions it comes from), then a subtotal row per category and for all, contingency, overhead,
 // tax and total. Money has two decimals; imperial unit prices per foot are the extended price
 // over the feet shown, with six decimals or as many more as the row needs to multiply out.
 func bomCSV(r *route.Result, opt WriteOptions) ([]byte, error) {
@@ -86,7 +114,7 @@ func bomCSV(r *route.Result, opt WriteOptions) ([]byte, error) {
 	cur := strings.ToLower(b.Currency)
 	var buf bytes.Buffer
 	w := escape.NewWriter(&buf)
-	w.Write([]string{"category", "item", "unit", "quantity", "unit_price_" + cur, "extended_" + cur})
+	w.Write([]string{"category", "item", "unit", "quantity", "unit_price_" + cur, "extended_" + cur, "from"})
 	for _, l := range b.Lines {
 		unit, qty, price := bomUnit(opt, l)
 		q, p := strconv.FormatFloat(qty, 'f', qtyDecimals(unit), 64), media.FormatCents(l.UnitCents)
@@ -97,19 +125,19 @@ func bomCSV(r *route.Result, opt WriteOptions) ([]byte, error) {
 			shown, _ := strconv.ParseFloat(q, 64)
 			p = perFoot(l.ExtendedCents, shown, price)
 		}
-		w.Write([]string{l.Category, describe(opt, l), unit, q, p, media.FormatCents(l.ExtendedCents)})
+		w.Write([]string{l.Category, describe(opt, l), unit, q, p, media.FormatCents(l.ExtendedCents), fromText(l)})
 	}
 	for _, s := range b.Subtotal {
-		w.Write([]string{rowSubtotal, s.Category, "", "", "", media.FormatCents(s.Cents)})
+		w.Write([]string{rowSubtotal, s.Category, "", "", "", media.FormatCents(s.Cents), ""})
 	}
-	w.Write([]string{rowSubtotal, "all categories", "", "", "", media.FormatCents(b.SubtotalCents)})
+	w.Write([]string{rowSubtotal, "all categories", "", "", "", media.FormatCents(b.SubtotalCents), ""})
 	w.Write([]string{rowContingency, pct(b.ContingencyBP) + " % of the subtotal", "%", pct(b.ContingencyBP),
-		media.FormatCents(b.SubtotalCents), media.FormatCents(b.ContingencyCents)})
+		media.FormatCents(b.SubtotalCents), media.FormatCents(b.ContingencyCents), ""})
 	w.Write([]string{rowOverhead, pct(b.OverheadBP) + " % of the subtotal", "%", pct(b.OverheadBP),
-		media.FormatCents(b.SubtotalCents), media.FormatCents(b.OverheadCents)})
+		media.FormatCents(b.SubtotalCents), media.FormatCents(b.OverheadCents), ""})
 	w.Write([]string{rowTax, pct(b.TaxBP) + " % of " + taxedWords(b), "%", pct(b.TaxBP),
-		media.FormatCents(b.TaxBaseCents), media.FormatCents(b.TaxCents)})
-	w.Write([]string{rowTotal, b.Label, "", "", "", media.FormatCents(b.TotalCents)})
+		media.FormatCents(b.TaxBaseCents), media.FormatCents(b.TaxCents), ""})
+	w.Write([]string{rowTotal, b.Label, "", "", "", media.FormatCents(b.TotalCents), ""})
 	if err := w.Flush(); err != nil {
 		return nil, err
 	}
@@ -156,7 +184,7 @@ func bomXLSX(ctx context.Context, r *route.Result, opt WriteOptions) ([]byte, er
 	links.Filter = true
 	bom := wb.AddSheet("bill of materials", workbook.Column{Name: "category"}, workbook.Column{Name: "item"},
 		workbook.Column{Name: "unit"}, workbook.Column{Name: "quantity"}, workbook.Column{Name: "unit price", Unit: cur},
-		workbook.Column{Name: "extended", Unit: cur})
+		workbook.Column{Name: "extended", Unit: cur}, workbook.Column{Name: "from"})
 	bom.Filter = true
 	pulls := wb.AddSheet("pull sections",
 		workbook.Column{Name: "link"}, workbook.Column{Name: "leg"}, workbook.Column{Name: "pull"},
@@ -216,7 +244,8 @@ func bomXLSX(ctx context.Context, r *route.Result, opt WriteOptions) ([]byte, er
 			unitPrice = workbook.Formula(fmt.Sprintf("ROUND((%s)*%s/100,2)", strings.Join(sums, "+"), pct(l.PercentBP)), 2)
 		}
 		bom.Append(workbook.Text(l.Category), workbook.Text(describe(opt, l)), workbook.Text(unit), workbook.Number(qty, dq),
-			unitPrice, workbook.Formula(fmt.Sprintf("ROUND(%s*%s,2)", workbook.Ref(3, row), workbook.Ref(4, row)), 2))
+			unitPrice, workbook.Formula(fmt.Sprintf("ROUND(%s*%s,2)", workbook.Ref(3, row), workbook.Ref(4, row)), 2),
+			workbook.Text(fromCell(l)))
 	}
 	bom.Append()
 	subRow := map[string]int{}

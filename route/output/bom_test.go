@@ -29,7 +29,7 @@ func TestBOMOutputsAddUp(t *testing.T) {
 		t.Fatal(err)
 	}
 	rows := testplan.ReadCSV(t, testplan.FileOf(t, files, "bom.csv"))
-	if got := strings.Join(rows[0], ","); got != "category,item,unit,quantity,unit_price_usd,extended_usd" {
+	if got := strings.Join(rows[0], ","); got != "category,item,unit,quantity,unit_price_usd,extended_usd,from" { // "from" last, so no earlier column moves
 		t.Fatalf("header: %s", got)
 	}
 	cents := func(s string) int64 {
@@ -50,6 +50,9 @@ func TestBOMOutputsAddUp(t *testing.T) {
 				t.Errorf("%s: extended %s, want %s", row[1], row[5], media.FormatCents(want))
 			}
 			byCat[row[0]] += cents(row[5])
+			if row[6] == "" {
+				t.Errorf("%s: no sources in from", row[1])
+			}
 		case rowSubtotal:
 			if row[1] == "all categories" {
 				all = cents(row[5])
@@ -154,6 +157,13 @@ func TestBOMWorkbook(t *testing.T) {
 				if got := cents(num(sh, fmt.Sprintf("F%d", row))); got != l.ExtendedCents {
 					t.Errorf("%s: extended %d, want %d", l.Item, got, l.ExtendedCents)
 				}
+				// The sources last, after the live formulas, as in bom.csv.
+				if got, _ := x.Value(sh, fmt.Sprintf("G%d", row)); got != strings.Join(l.From, "; ") || got == "" {
+					t.Errorf("%s: from %q, want %q", l.Item, got, strings.Join(l.From, "; "))
+				}
+			}
+			if h, _ := x.Value(sh, "G1"); h != "from" {
+				t.Errorf("G1: %q, want from", h)
 			}
 			n := len(b.Lines)
 			totalRow := n + 1 + 1 + len(b.Subtotal) + 5 // lines, a blank row, subtotals, all, three markups, total
@@ -331,5 +341,31 @@ print(wb["summary"]["B%d" % (21 + len(cats) - 4)].value)
 		len(b.Lines), b.TotalCents, len(b.Lines)+1+1+len(b.Subtotal)+5)
 	if string(out) != want {
 		t.Errorf("openpyxl read:\n%s\nwant:\n%s", out, want)
+	}
+}
+
+// TestFromCellFits: a line with more sources than a workbook cell holds (Excel
+// specifications and limits: 32,767 characters in a cell) keeps whole sources and says how
+// many more bom.csv lists; a short list is kept whole.
+func TestFromCellFits(t *testing.T) {
+	t.Parallel()
+	l := media.BOMLine{From: []string{"leg A-B/primary", "leg A-C/primary"}}
+	if got := fromCell(l); got != "leg A-B/primary; leg A-C/primary" {
+		t.Errorf("short: %q", got)
+	}
+	l.From = nil
+	for i := range 5000 {
+		l.From = append(l.From, fmt.Sprintf("leg L%05d/primary", i))
+	}
+	got := fromCell(l)
+	if len(got) > 32767 || !strings.HasSuffix(got, " more, all in bom.csv") {
+		t.Fatalf("long: %d characters, ends %q", len(got), got[len(got)-40:])
+	}
+	var kept, more int
+	head, _, _ := strings.Cut(got, "; and ")
+	kept = len(strings.Split(head, "; "))
+	if _, err := fmt.Sscanf(got[len(head):], "; and %d more", &more); err != nil || kept+more != 5000 ||
+		strings.Split(head, "; ")[kept-1] != l.From[kept-1] {
+		t.Errorf("long: kept %d, %d more (%v), want 5,000 in all, whole sources", kept, more, err)
 	}
 }
