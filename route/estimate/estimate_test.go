@@ -206,6 +206,21 @@ func TestReelJoinsInLossBudget(t *testing.T) {
 	}
 }
 
+// pullBuilt plans the pull campus (25 mm ducts, one spare) with P built by method ("" leaves
+// it to the plan: the cheaper way, TestMethodChosen).
+func pullBuilt(t *testing.T, method string) *route.Result {
+	t.Helper()
+	campus := testsite.PullCampus(25, 1)
+	if method != "" {
+		campus = strings.Replace(campus, `"surface":"asphalt"`, `"surface":"asphalt","method":"`+method+`"`, 1)
+	}
+	r, err := testplan.PullSolveJSON(t, campus, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return r
+}
+
 // TestConstruction: C is reached only over the proposed duct P, whose far end meets D at a
 // junction with no structure (a new handhole there), and D's single 25 mm duct takes one
 // 24-strand cable (NFPA 70 Chapter 9 Table 1: 53 % for one cable) but not two (31 %), so the
@@ -214,11 +229,7 @@ func TestConstruction(t *testing.T) {
 	t.Parallel()
 	// P's method is given as trench: unset, the plan would bore it (cheaper at the demo prices,
 	// TestMethodChosen).
-	campus := strings.Replace(testsite.PullCampus(25, 1), `"surface":"asphalt"`, `"surface":"asphalt","method":"trench"`, 1)
-	r, err := testplan.PullSolveJSON(t, campus, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
+	r := pullBuilt(t, "trench")
 	testplan.LegOf(t, r, "A-C")
 	if len(r.Opened) != 1 || !strings.HasPrefix(r.Opened[0], "P") {
 		t.Fatalf("opened: got %v, want P", r.Opened)
@@ -389,14 +400,7 @@ func TestCopperTakeoff(t *testing.T) {
 func TestMethodChosen(t *testing.T) {
 	t.Parallel()
 	for _, tc := range []struct{ method, want string }{{"", geo.MethodBore}, {"trench", geo.MethodTrench}} {
-		campus := testsite.PullCampus(25, 1)
-		if tc.method != "" {
-			campus = strings.Replace(campus, `"surface":"asphalt"`, `"surface":"asphalt","method":"`+tc.method+`"`, 1)
-		}
-		r, err := testplan.PullSolveJSON(t, campus, nil)
-		if err != nil {
-			t.Fatal(err)
-		}
+		r := pullBuilt(t, tc.method)
 		if len(r.Opened) != 1 {
 			t.Fatalf("method %q: opened %v, want P", tc.method, r.Opened)
 		}
@@ -750,11 +754,7 @@ func TestBidBases(t *testing.T) {
 func TestBillLinesTraced(t *testing.T) {
 	t.Parallel()
 	// P's method given as trench, as in TestConstruction.
-	campus := strings.Replace(testsite.PullCampus(25, 1), `"surface":"asphalt"`, `"surface":"asphalt","method":"trench"`, 1)
-	r, err := testplan.PullSolveJSON(t, campus, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
+	r := pullBuilt(t, "trench")
 	e := r.Estimate
 	set := map[string]map[string]bool{}
 	put := func(line, from string) {

@@ -160,9 +160,8 @@ func (sv *solver) chargeMoves() bool {
 		// Demands without a diverse pair first: their reroutes are single searches, and the
 		// move is abandoned as soon as what they cost exceeds the charge, often before any
 		// pair search.
-		slices.SortStableFunc(users, func(a, b int32) int {
-			return boolCmp(sv.p.Demands[a].Diverse, sv.p.Demands[b].Diverse)
-		})
+		single := slices.DeleteFunc(slices.Clone(users), func(d int32) bool { return sv.p.Demands[d].Diverse })
+		users = append(single, slices.DeleteFunc(users, func(d int32) bool { return !sv.p.Demands[d].Diverse })...)
 		if sv.closeSet(int32(-1-k), edges, users, ch.Cents) {
 			changed = true
 		}
@@ -901,15 +900,4 @@ func (sv *solver) reaches(src, dst int32) bool {
 		}
 	}
 	return false
-}
-
-// boolCmp orders false before true.
-func boolCmp(a, b bool) int {
-	switch {
-	case a == b:
-		return 0
-	case !a:
-		return -1
-	}
-	return 1
 }

@@ -125,11 +125,10 @@ func newLayout(s *site.Site, firstGroup int) *layout {
 	// keeps only those that lead somewhere (all, when none does), so that one usable entrance
 	// is planned as a building's only one (both legs of a diverse link through it, named as
 	// the single point of failure) rather than as one of two.
-	part := spanParts(net, jIndex)
 	reach := map[int]map[string]bool{} // part → buildings with an entrance in it
 	for b, es := range entrances {
 		for _, e := range es {
-			p := part[jIndex[e.Junction]]
+			p := s.SpanPart(e.Junction)
 			if reach[p] == nil {
 				reach[p] = map[string]bool{}
 			}
@@ -137,7 +136,7 @@ func newLayout(s *site.Site, firstGroup int) *layout {
 		}
 	}
 	for b, es := range entrances {
-		keep := slices.DeleteFunc(slices.Clone(es), func(e geo.Entry) bool { return len(reach[part[jIndex[e.Junction]]]) < 2 })
+		keep := slices.DeleteFunc(slices.Clone(es), func(e geo.Entry) bool { return len(reach[s.SpanPart(e.Junction)]) < 2 })
 		if len(keep) > 0 && len(keep) < len(es) {
 			entrances[b] = keep
 		}
@@ -362,29 +361,4 @@ func bearingAt(net *geo.Network, i int, j string) float64 {
 		deg += 360
 	}
 	return deg
-}
-
-// spanParts labels each junction (by index) with its connected part of the network by spans
-// alone.
-func spanParts(net *geo.Network, jIndex map[string]int) []int {
-	parent := make([]int, len(net.Junctions))
-	for i := range parent {
-		parent[i] = i
-	}
-	find := func(x int) int {
-		for parent[x] != x {
-			parent[x] = parent[parent[x]]
-			x = parent[x]
-		}
-		return x
-	}
-	for _, sp := range net.Spans {
-		if a, b := find(jIndex[sp.From]), find(jIndex[sp.To]); a != b {
-			parent[max(a, b)] = min(a, b)
-		}
-	}
-	for i := range parent {
-		parent[i] = find(i)
-	}
-	return parent
 }

@@ -10,10 +10,10 @@ import (
 )
 
 // components labels every junction (by index in Net.Junctions) with its connected part of the
-// pathway network; junctions joined by spans share a label, and so do the entrances of one
-// building (a cable can go through a building: whether a route may is another question, see
-// ThroughOnly).
-func components(net *geo.Network, junction map[string]int) []int {
+// pathway network: junctions joined by spans share a label, and, with entrances, so do the
+// entrances of one building (a cable can go through a building: whether a route may is
+// another question, see ThroughOnly).
+func components(net *geo.Network, junction map[string]int, entrances bool) []int {
 	parent := make([]int, len(net.Junctions))
 	for i := range parent {
 		parent[i] = i
@@ -34,7 +34,7 @@ func components(net *geo.Network, junction map[string]int) []int {
 	for _, sp := range net.Spans {
 		join(sp.From, sp.To)
 	}
-	for i := 1; i < len(net.Entrances); i++ {
+	for i := 1; entrances && i < len(net.Entrances); i++ {
 		if e, f := net.Entrances[i-1], net.Entrances[i]; e.Building == f.Building {
 			join(e.Junction, f.Junction)
 		}
@@ -43,6 +43,15 @@ func components(net *geo.Network, junction map[string]int) []int {
 		parent[i] = find(i)
 	}
 	return parent
+}
+
+// SpanPart is the connected part of the network junction j is in, by spans alone (buildings
+// do not join their entrances here); -1 for an unknown junction.
+func (s *Site) SpanPart(j string) int {
+	if i, ok := s.junction[j]; ok {
+		return s.spanPart[i]
+	}
+	return -1
 }
 
 // partsOf lists the parts of the network (components labels) the building's entrances are in.

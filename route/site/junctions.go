@@ -86,18 +86,5 @@ func (s *Site) UnreachableServed(hub string, links []Link) []string {
 // no published source).
 func (s *Site) JoinsNetwork(j string) bool {
 	jn, ok := s.Net.Junction(j)
-	if !ok || jn.Kind != geo.JunctionNode {
-		return false
-	}
-	for _, a := range s.Net.Access {
-		if a.Junction == j {
-			return false
-		}
-	}
-	for _, e := range s.Net.Entrances {
-		if e.Junction == j {
-			return false
-		}
-	}
-	return true
+	return ok && jn.Kind == geo.JunctionNode && !s.entrance[j]
 }

@@ -21,9 +21,11 @@ type Site struct {
 
 	building map[string]*geo.Building
 	access   map[string]geo.Access
-	junction map[string]int // junction ID → index in Net.Junctions
-	part     []int          // by junction index: its connected part of the network (components)
-	dist     sync.Map       // building ID → map[string]float64, see distancesFrom
+	junction map[string]int  // junction ID → index in Net.Junctions
+	part     []int           // by junction index: its connected part of the network, entrances joined (components)
+	spanPart []int           // the same by spans alone (SpanPart)
+	entrance map[string]bool // junction IDs of every entrance and access (JoinsNetwork)
+	dist     sync.Map        // building ID → map[string]float64, see distancesFrom
 
 	// Solved keeps the optimizer's solutions of the routing problems solved on this site, by
 	// fingerprint of the canonical problem (see package routing), and Pulls the pull plans of
@@ -87,7 +89,15 @@ func NewSite(c *geo.Campus, net *geo.Network) *Site {
 	for i, j := range net.Junctions {
 		s.junction[j.ID] = i
 	}
-	s.part = components(net, s.junction)
+	s.part = components(net, s.junction, true)
+	s.spanPart = components(net, s.junction, false)
+	s.entrance = make(map[string]bool, len(net.Entrances)+len(net.Access))
+	for _, a := range net.Access {
+		s.entrance[a.Junction] = true
+	}
+	for _, e := range net.Entrances {
+		s.entrance[e.Junction] = true
+	}
 	return s
 }
 
