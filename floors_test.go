@@ -18,6 +18,7 @@ var floors = map[string]int{
 	".":                        0, // the embedded demo campus
 	"geo/input":                0,
 	"geo/ctxtest":              0,
+	"geo/crs":                  0,
 	"media/install":            0,
 	"route/optimize":           0,
 	"route/escape":             0,
