@@ -36,6 +36,8 @@ const (
 	PricePatchCord     = "patch-cord"     // each, from a panel to the equipment: Medium (optional section, see PriceBook.Has)
 	PriceAttenuator    = "attenuator"     // a fixed in-line optical attenuator, each: Count dB (optional section)
 	PriceBidItem       = "bid-item"       // an entry of bid_items priced as a lump sum or per unit of its basis: Name its id (optional section)
+	PriceEntrance      = "entrance"       // building entry, each entrance a plan uses: wall penetration, sleeve or entrance conduit, firestop (optional)
+	PriceCrew          = "crew"           // crew labour, each: Name one of CrewTasks (optional, each task on its own)
 
 	RatePull        = "pull-rate"        // metres pulled per hour: Name pathway type (duct, tunnel, aerial, buried, tray)
 	RateSplice      = "splice-rate"      // splices per hour
@@ -109,6 +111,10 @@ func (k PriceKey) Path() string {
 		return "attenuators_each." + n
 	case PriceBidItem:
 		return "bid_items[id " + k.Name + "]"
+	case PriceEntrance:
+		return "building_entrance_each"
+	case PriceCrew:
+		return "crew_each." + k.Name
 	case RatePull:
 		return "labour.pull_m_per_hour." + k.Name
 	case RateSplice:
@@ -122,6 +128,18 @@ func (k PriceKey) Path() string {
 	}
 	return k.String()
 }
+
+// Crew tasks, the names of crew_each: labour as crews price it, per task done, each task
+// priced only when the book prices it.
+const (
+	CrewPullSetup        = "pull_setup"        // setting up one pull of one cable between two pull points
+	CrewStructureEntry   = "structure_entry"   // entering a maintenance hole or handhole once for one cable passing or ending there
+	CrewCableEndPrep     = "cable_end_prep"    // preparing one end of one cable for termination
+	CrewEnclosureInstall = "enclosure_install" // installing one fibre enclosure or copper patch panel
+)
+
+// CrewTasks are the crew tasks in a fixed order.
+var CrewTasks = []string{CrewPullSetup, CrewStructureEntry, CrewCableEndPrep, CrewEnclosureInstall}
 
 func isRate(item string) bool { return strings.HasSuffix(item, "-rate") }
 
@@ -354,6 +372,8 @@ type priceFile struct {
 	DirectionalBorePerM cents                               `yaml:"directional_bore_per_m"`
 	RestorationPerM     map[string]cents                    `yaml:"restoration_per_m"`
 	AddedDuctPerM       cents                               `yaml:"added_duct_per_m"`
+	EntranceEach        cents                               `yaml:"building_entrance_each"`
+	CrewEach            map[string]cents                    `yaml:"crew_each"`
 	Labour              labourYAML                          `yaml:"labour"`
 	Transceivers        map[string]cents                    `yaml:"transceivers"`
 	PatchCordsEach      map[string]cents                    `yaml:"patch_cords_each"`
@@ -569,6 +589,7 @@ func ParsePriceBook(name string, data []byte) (*PriceBook, error) {
 	scalar("innerduct_per_m", PriceInnerduct, f.InnerductPerM)
 	scalar("directional_bore_per_m", PriceBore, f.DirectionalBorePerM)
 	scalar("added_duct_per_m", PriceAddedDuct, f.AddedDuctPerM)
+	scalar("building_entrance_each", PriceEntrance, f.EntranceEach)
 	ports := func(key, item string, m map[int]cents) {
 		for _, n := range sortedInts(m) {
 			if n <= 0 {
@@ -604,6 +625,7 @@ func ParsePriceBook(name string, data []byte) (*PriceBook, error) {
 	named("trench_per_m", PriceTrench, f.TrenchPerM, surfaces)
 	named("restoration_per_m", PriceRestoration, f.RestorationPerM, surfaces)
 	named("transceivers", PriceTransceiver, f.Transceivers, nil)
+	named("crew_each", PriceCrew, f.CrewEach, CrewTasks)
 	if f.Pos.Has("labour") {
 		lb := f.Labour
 		if lb.Pos.Has("hourly_rate") {

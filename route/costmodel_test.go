@@ -89,7 +89,12 @@ func routeDependent(item string, price, rate media.PriceKey) bool {
 	case media.PriceCable, media.PriceInnerduct, media.PriceTrench, media.PriceRestoration, media.PriceBore, media.PriceAddedDuct:
 		return true
 	case media.PriceStructure:
-		return item == "handhole where new pathway joins the network" || item == "handhole where a route turns between pathways"
+		return item == "handhole where new pathway joins the network" || item == "handhole where a route turns between pathways" ||
+			item == "handhole along new construction"
+	case media.PriceEntrance:
+		return true
+	case media.PriceCrew:
+		return price.Name != media.CrewEnclosureInstall // enclosures follow the media, not the routes
 	case media.PriceLabourHour:
 		return rate.Item == media.RatePull
 	}
@@ -274,8 +279,9 @@ func problemOf(t *testing.T, r *route.Result) (*optimize.Problem, []site.Link) {
 }
 
 // objectiveOf evaluates the optimizer's objective (route/optimize's package documentation)
-// of r's routes, media, opened spans and added ducts on prob, a problem of the same site.
-func objectiveOf(r *route.Result, prob *optimize.Problem, links []site.Link) int64 {
+// of r's routes, media, opened spans and added ducts on prob, a problem of the same site
+// priced from pb.
+func objectiveOf(r *route.Result, prob *optimize.Problem, pb *media.PriceBook, links []site.Link) int64 {
 	var c int64
 	index := map[string]int{}
 	for i := range r.Site.Net.Spans {
@@ -341,6 +347,31 @@ func objectiveOf(r *route.Result, prob *optimize.Problem, links []site.Link) int
 			}
 		}
 	}
+	// Turn edges carry the crew's work at the handhole a route turns in, per cable.
+	for i := range r.Legs {
+		if l := &r.Legs[i]; l.Feasible {
+			for _, j := range l.Turns {
+				if e, ok := byID["turn at "+j]; ok {
+					c += e.PerCableCents
+				}
+			}
+		}
+	}
+	// Entrances: those of buildings with several are charges paid once, those of buildings
+	// with one the constant part of the objective (routing.Routed.ConstantCents).
+	for _, en := range r.Estimate.Construction.Entrances {
+		if en.Single {
+			for _, q := range items.Entrance(pb, r.Plan.Design, en.LateralM) {
+				c += pb.Cents(q)
+			}
+			continue
+		}
+		for _, ch := range prob.Charges {
+			if ch.ID == "entrance "+en.Entrance+" of "+en.Building {
+				c += ch.Cents
+			}
+		}
+	}
 	for _, f := range r.Fill {
 		e := &prob.Edges[index[f.Span]]
 		c += int64(f.AddedDucts) * int64(math.Round(e.LengthM*float64(e.AddDuctPerMCents)))
@@ -376,7 +407,7 @@ func TestCostModelMovesWithTheBill(t *testing.T) {
 	}
 	_, links := problemOf(t, r)
 	prob0, pb0 := problem(base)
-	if got := objectiveOf(r, prob0, links); got != r.ObjectiveCents {
+	if got := objectiveOf(r, prob0, pb0, links); got != r.ObjectiveCents {
 		t.Fatalf("objectiveOf %d cents, the optimizer's %d: the evaluator is wrong", got, r.ObjectiveCents)
 	}
 	bill := func(pb *media.PriceBook) (int64, float64) {
@@ -407,7 +438,7 @@ func TestCostModelMovesWithTheBill(t *testing.T) {
 	for _, tc := range cases {
 		prob1, pb1 := problem(costBook(t, tc.from, tc.to))
 		bill1, bound1 := bill(pb1)
-		dModel := objectiveOf(r, prob1, links) - r.ObjectiveCents
+		dModel := objectiveOf(r, prob1, pb1, links) - r.ObjectiveCents
 		dBill := bill1 - bill0
 		if dModel == 0 && dBill == 0 {
 			t.Logf("%s: moves neither (not used on this campus)", tc.name)

@@ -103,7 +103,8 @@ func SolveWith(ctx context.Context, s *site.Site, p *plan.Plan, eng *media.Engin
 		r.Warnings = append(r.Warnings, w.File+": "+w.Feature+": "+w.Message)
 	}
 	r.cutOff(s.UnreachableServed(hub, links))
-	e, err := estimate.Build(ctx, estimate.Input{Site: s, Plan: p, Engine: eng, Legs: r.Legs, Fill: r.Fill, Opened: r.Opened, Handholes: r.Handholes})
+	e, err := estimate.Build(ctx, estimate.Input{Site: s, Plan: p, Engine: eng, Legs: r.Legs, Fill: r.Fill, Opened: r.Opened, Handholes: r.Handholes,
+		Runs: rt.Runs, Entrances: rt.Entrances})
 	if err != nil {
 		return nil, err
 	}

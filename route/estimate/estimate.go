@@ -119,6 +119,18 @@ type Construction struct {
 	// TurnJunctions are the handholes or pull boxes added where a route turns from one pathway
 	// into another at a junction with no structure (geo.PassNeedsStructure), by junction ID.
 	TurnJunctions []string
+	// RunHandholes are the handholes placed along the opened runs of new construction
+	// (routing.Routed.Runs), in run order.
+	RunHandholes []RunHandhole
+	// Entrances are the building entrances the plan uses (routing.Routed.Entrances); their
+	// counted laterals are in TrenchM or BoreM and AddedDuctM.
+	Entrances []routing.EntranceUse
+}
+
+// RunHandhole is a handhole along new construction: on a span, AtM metres from its From end.
+type RunHandhole struct {
+	Span string
+	AtM  float64
 }
 
 // fibre tells whether the leg's medium is optical fibre.
@@ -136,8 +148,12 @@ type Input struct {
 	Fill   []routing.SegmentFill
 	Opened []string // proposed spans the plan builds, by span ID
 	// Handholes are the handholes the plan adds at junctions without a structure
-	// (routing.Routed.Handholes); the pulling plan takes them as pull points.
+	// (routing.Routed.Handholes); the pulling plan takes those where routes turn as pull points.
 	Handholes []routing.Handhole
+	// Runs are the opened runs of new construction with their handholes, and Entrances the
+	// entrances the legs use (routing.Routed).
+	Runs      []site.NewRun
+	Entrances []routing.EntranceUse
 }
 
 // run is one estimate being built.
@@ -147,6 +163,8 @@ type run struct {
 	// newFrom names the spans of each line of new construction, for the bill's From: by
 	// trench surface, and under keyBore and keyAddedDuct.
 	newFrom map[string][]string
+	// runHH holds the handholes along new construction by span ID, at metres from its From end.
+	runHH map[string][]float64
 }
 
 // Keys of run.newFrom beside the trench surfaces.
@@ -159,6 +177,9 @@ const (
 func fromLeg(l *routing.Leg) string { return "leg " + l.Link.ID + "/" + l.Name }
 func fromBuilding(b string) string  { return "building " + b }
 func fromSpan(id string) string     { return "span " + id }
+func fromEntrance(e routing.EntranceUse) string {
+	return "entrance " + e.Entrance + " of building " + e.Building
+}
 func fromJunctions(ids []string) []string {
 	out := make([]string, len(ids))
 	for i, id := range ids {
@@ -182,6 +203,13 @@ func Build(ctx context.Context, in Input) (*Estimate, error) {
 	r := &run{Input: in, Estimate: &Estimate{}}
 	e := r.Estimate
 	added := map[string]bool{}
+	r.runHH = map[string][]float64{}
+	for _, run := range r.Runs {
+		for _, h := range run.Handholes {
+			id := run.Steps[h.Step].SpanID
+			r.runHH[id] = append(r.runHH[id], h.AtM)
+		}
+	}
 	for i := range r.Legs {
 		if err := ctxio.StopEvery(ctx, i); err != nil {
 			return nil, err
@@ -288,7 +316,17 @@ func (r *run) pullPlan(i int, added map[string]bool) {
 					steps = append(steps, install.Step{Kind: install.KindBend, AngleDeg: turn, RadiusM: rb})
 				}
 			}
+			// The handholes along new construction on this span, as metres into it in travel order.
+			var hh []float64
+			for _, at := range r.runHH[sp.ID] {
+				if leg.Steps[j].Reverse {
+					at = sp.LengthM - at
+				}
+				hh = append(hh, at)
+			}
+			slices.Sort(hh)
 			segs := sp.SegmentsM()
+			travelM := 0.0
 			for q := range segs {
 				qq, bq := q, q-1
 				if leg.Steps[j].Reverse {
@@ -297,11 +335,30 @@ func (r *run) pullPlan(i int, added map[string]bool) {
 				if q > 0 && bq < len(sp.BendsDeg) && sp.BendsDeg[bq] > 0 {
 					steps = append(steps, install.Step{Kind: install.KindBend, AngleDeg: sp.BendsDeg[bq], RadiusM: rm})
 				}
-				if n := len(steps); n > 0 && steps[n-1].Kind == install.KindStraight && (q > 0 || j == first) {
-					steps[n-1].LengthM += segs[qq] // straight on: one straight
-				} else {
-					steps = append(steps, install.Step{Kind: install.KindStraight, LengthM: segs[qq]})
+				straight := func(m float64) {
+					n := len(steps)
+					split := len(points) > 0 && points[len(points)-1] == n
+					if n > 0 && steps[n-1].Kind == install.KindStraight && (q > 0 || j == first) && !split {
+						steps[n-1].LengthM += m // straight on: one straight
+					} else {
+						steps = append(steps, install.Step{Kind: install.KindStraight, LengthM: m})
+					}
 				}
+				segM := segs[qq]
+				for len(hh) > 0 && hh[0] <= travelM+segM+1e-9 {
+					part := max(hh[0]-travelM, 0)
+					if part > 1e-9 {
+						straight(part)
+					} else if n := len(steps); n > 0 && steps[n-1].Kind == install.KindBend {
+						steps = steps[:n-1] // a bend at a handhole is taken inside it (site.NewRuns)
+					}
+					points = append(points, len(steps))
+					travelM, segM, hh = travelM+part, segM-part, hh[1:]
+				}
+				if segM > 1e-9 {
+					straight(segM)
+				}
+				travelM += segM
 			}
 		}
 		plan, err := s.Pulls.Sections(steps, points, spec)
@@ -525,15 +582,15 @@ func (r *run) connectivity() {
 
 // newWork counts new work along a span built by method (items.MethodOf): bored, or trenched
 // on its surface; from records the span under its line.
-func (c *Construction) newWork(sp *geo.Span, method string, from map[string][]string) {
+func (c *Construction) newWork(sp *geo.Span, method string, from map[string][]string, source string) {
 	if method == geo.MethodBore {
 		c.BoreM += sp.LengthM
-		from[keyBore] = append(from[keyBore], fromSpan(sp.ID))
+		from[keyBore] = append(from[keyBore], source)
 		return
 	}
 	sf := items.SurfaceOf(sp)
 	c.TrenchM[sf] += sp.LengthM
-	from[sf] = append(from[sf], fromSpan(sp.ID))
+	from[sf] = append(from[sf], source)
 }
 
 // construction totals the new civil work: opened spans (trench and restoration on their
@@ -544,13 +601,34 @@ func (r *run) construction() {
 	s := r.Site
 	c := Construction{TrenchM: map[string]float64{}}
 	r.newFrom = map[string][]string{}
+	var design plan.Design
+	if r.Plan != nil {
+		design = r.Plan.Design
+	}
 	for _, id := range r.Opened {
 		sp, _ := s.Net.Span(id)
-		c.newWork(&sp, items.MethodOf(r.Engine.PriceBook(), &sp), r.newFrom)
+		c.newWork(&sp, items.MethodOf(r.Engine.PriceBook(), &sp), r.newFrom, fromSpan(id))
 		if sp.Type == geo.TypeDuct {
-			c.AddedDuctM += sp.LengthM
+			c.AddedDuctM += float64(max(design.NewDucts, 1)) * sp.LengthM // items.Opening
 			r.newFrom[keyAddedDuct] = append(r.newFrom[keyAddedDuct], fromSpan(id))
 		}
+	}
+	for _, run := range r.Runs {
+		for _, h := range run.Handholes {
+			id := run.Steps[h.Step].SpanID
+			c.RunHandholes = append(c.RunHandholes, RunHandhole{Span: id, AtM: h.AtM})
+		}
+	}
+	// Counted laterals are built as new construction (items.Entrance).
+	c.Entrances = r.Entrances
+	for _, en := range r.Entrances {
+		if en.LateralM <= 0 {
+			continue
+		}
+		lat := &geo.Span{Type: geo.TypeDuct, LengthM: en.LateralM}
+		c.newWork(lat, items.MethodOf(r.Engine.PriceBook(), lat), r.newFrom, fromEntrance(en))
+		c.AddedDuctM += float64(max(design.NewDucts, 1)) * en.LateralM
+		r.newFrom[keyAddedDuct] = append(r.newFrom[keyAddedDuct], fromEntrance(en))
 	}
 	// The handholes are the routing's (routing.Routed.Handholes): the optimizer's charges it
 	// paid, so the bill counts what the model counted.
@@ -564,7 +642,7 @@ func (r *run) construction() {
 	for _, f := range r.Fill {
 		if f.AddedDucts > 0 {
 			sp, _ := s.Net.Span(f.Span)
-			c.newWork(&sp, items.MethodOf(r.Engine.PriceBook(), &sp), r.newFrom)
+			c.newWork(&sp, items.MethodOf(r.Engine.PriceBook(), &sp), r.newFrom, fromSpan(f.Span))
 			c.AddedDuctM += float64(f.AddedDucts) * sp.LengthM
 			r.newFrom[keyAddedDuct] = append(r.newFrom[keyAddedDuct], fromSpan(f.Span))
 		}
@@ -580,7 +658,7 @@ func (r *run) construction() {
 // transitions, terminations, tests, patch cords, transceivers, reel joins, and the
 // route-dependent items of its spans, ends and structure loops (package items), each for all its
 // cables. The bill adds them up; the leg's cost (LegCost) is them priced one by one.
-func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg) []media.Quantity {
+func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg, runHH map[string][]float64) []media.Quantity {
 	p := eng.PriceBook()
 	qs := make([]media.Quantity, 0, 24)
 	add := func(category, item, unit string, amount float64, price media.PriceKey) {
@@ -647,6 +725,24 @@ func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg) []
 	}
 	times(n, items.LegEnds(l.RiserM, t.EndSlackM+t.EntranceLoopM, l.LateralM)...)
 	times(n, items.StructureLoops(t.StructureLoopM)...)
+	// The crew, per cable: a pull set-up per section between the pull points the route
+	// passes or ends at (structures, handholes along new construction, handholes where it
+	// turns), an entry at each maintenance hole or handhole among them, both ends prepared.
+	var pull, entered float64
+	for _, j := range s.JunctionsOf(l.Steps) {
+		if items.PullPoint(s, j) {
+			pull++
+		}
+		if items.Entered(s, j) {
+			entered++
+		}
+	}
+	added := float64(len(l.Turns))
+	for _, st := range l.Steps {
+		added += float64(len(runHH[st.SpanID]))
+	}
+	times(n, items.AtJunctions(p, 1+pull+added, entered+added)...)
+	times(n, items.Crew(p, media.CrewCableEndPrep, 2)...)
 	return qs
 }
 
@@ -665,7 +761,7 @@ func (r *run) quantities() {
 	}
 	for i := range r.Legs {
 		if l := &r.Legs[i]; l.Feasible {
-			items := legItems(r.Site, r.Engine, design, l)
+			items := legItems(r.Site, r.Engine, design, l, r.runHH)
 			// The leg's cost: its items priced one by one, and its share of new construction.
 			c := legCost(p, items)
 			c.ConstructionCents += l.Cost.ConstructionCents
@@ -696,6 +792,13 @@ func (r *run) quantities() {
 		if c.SpliceTrays > 0 {
 			add(media.CategoryMaterial, fmt.Sprintf("splice tray, %d splices", p.TraySplices()), media.UnitEach, float64(c.SpliceTrays), media.PriceKey{Item: media.PriceSpliceTray})
 		}
+		installed := 0
+		for _, q := range e.Quantities[first:] {
+			if k := q.Price.Item; k == media.PriceEnclosure || k == media.PriceCopperPanel {
+				installed += int(q.Amount)
+			}
+		}
+		e.Quantities = append(e.Quantities, items.Crew(p, media.CrewEnclosureInstall, float64(installed))...)
 		sourced(e.Quantities[first:], []string{fromBuilding(c.Building)})
 	}
 	con := e.Construction
@@ -713,6 +816,24 @@ func (r *run) quantities() {
 		one(items.JoinHandholes(len(con.NewJunctions)), fromJunctions(con.NewJunctions)))
 	if len(con.TurnJunctions) > 0 { // a price book without handholes stays valid while no route turns
 		e.Quantities = append(e.Quantities, one(items.TurnHandholes(len(con.TurnJunctions)), fromJunctions(con.TurnJunctions)))
+	}
+	if len(con.RunHandholes) > 0 {
+		var on []string
+		for _, h := range con.RunHandholes {
+			if f := fromSpan(h.Span); !slices.Contains(on, f) {
+				on = append(on, f)
+			}
+		}
+		e.Quantities = append(e.Quantities, one(items.RunHandholes(len(con.RunHandholes)), on))
+	}
+	if p.Has(media.PriceEntrance) && len(con.Entrances) > 0 {
+		var at []string
+		for _, en := range con.Entrances {
+			at = append(at, fromEntrance(en))
+		}
+		q := items.Entrance(p, design, 0)[0]
+		q.Amount = float64(len(con.Entrances))
+		e.Quantities = append(e.Quantities, one(q, at))
 	}
 	// The added pull points come from the pulls of the legs that need them.
 	var pulled []string

@@ -252,15 +252,20 @@ func TestConstruction(t *testing.T) {
 	if addedDucts == 0 {
 		t.Fatalf("no duct added: fill %+v", r.Fill)
 	}
-	if math.Abs(con.AddedDuctM-(p.LengthM+addedM)) > 1e-9 || math.Abs(con.TrenchM["turf"]-turf) > 1e-9 {
-		t.Errorf("added duct %.2f m, want %.2f; turf trench %.2f m, want %.2f", con.AddedDuctM, p.LengthM+addedM, con.TrenchM["turf"], turf)
+	// The opened duct P carries the design's ducts (design.new_ducts, 2 by default).
+	newDuctM := float64(r.Plan.Design.NewDucts) * p.LengthM
+	if r.Plan.Design.NewDucts != 2 {
+		t.Fatalf("design.new_ducts %d, want the default 2", r.Plan.Design.NewDucts)
+	}
+	if math.Abs(con.AddedDuctM-(newDuctM+addedM)) > 1e-9 || math.Abs(con.TrenchM["turf"]-turf) > 1e-9 {
+		t.Errorf("added duct %.2f m, want %.2f; turf trench %.2f m, want %.2f", con.AddedDuctM, newDuctM+addedM, con.TrenchM["turf"], turf)
 	}
 	b := r.Estimate.BOM
 	for item, want := range map[string]float64{
 		"trench, asphalt":      math.Round(p.LengthM*10) / 10,
 		"restoration, asphalt": math.Round(p.LengthM*10) / 10,
 		"trench, turf":         math.Round(turf*10) / 10,
-		"added duct":           math.Round((p.LengthM+addedM)*10) / 10,
+		"added duct":           math.Round((newDuctM+addedM)*10) / 10,
 		"handhole where new pathway joins the network": 1,
 	} {
 		if got := testplan.BOMQty(b, item); got != want {

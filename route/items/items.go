@@ -62,9 +62,10 @@ func AlongSpan(d plan.Design, typ string, metres float64) []media.Quantity {
 }
 
 // LegEnds is what one cable takes at the ends of a leg besides the cable: risers, service
-// coils and entrance loops (coilsM) pulled in tray, laterals pulled buried.
+// coils and entrance loops (coilsM) pulled in tray, counted laterals pulled in the duct the
+// plan builds for them (Entrance).
 func LegEnds(riserM, coilsM, lateralM float64) []media.Quantity {
-	return []media.Quantity{Pull(geo.TypeTray, riserM+coilsM), Pull(geo.TypeBuried, lateralM)}
+	return []media.Quantity{Pull(geo.TypeTray, riserM+coilsM), Pull(geo.TypeDuct, lateralM)}
 }
 
 // StructureLoops is what one cable's slack loops of metres at structures take besides the
@@ -150,15 +151,75 @@ func JoinHandholes(n int) media.Quantity {
 		Unit: media.UnitEach, Amount: float64(n), Price: media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole}}
 }
 
-// Opening is what opening a proposed span built by method takes: its new work, and a duct
-// when it is a duct. The handholes where it joins the network are charges of their junctions,
+// Opening is what opening a proposed span built by method takes: its new work, and the
+// design's ducts (plan.Design.NewDucts, at least one) when it is a duct. The handholes along
+// its run are RunHandholes; those where it joins the network are charges of their junctions,
 // paid once however many opened spans meet there (package routing, layout).
-func Opening(sp *geo.Span, method string) []media.Quantity {
+func Opening(sp *geo.Span, method string, ducts int) []media.Quantity {
 	q := NewWork(sp, method, sp.LengthM)
 	if sp.Type == geo.TypeDuct {
-		q = append(q, AddedDuct(sp.LengthM))
+		q = append(q, AddedDuct(float64(max(ducts, 1))*sp.LengthM))
 	}
 	return q
+}
+
+// RunHandholes is n handholes placed along new construction so that no pull section is
+// longer or bends more than the design allows (site.NewRuns).
+func RunHandholes(n int) media.Quantity {
+	return media.Quantity{Category: media.CategoryConstruction, Item: "handhole along new construction",
+		Unit: media.UnitEach, Amount: float64(n), Price: media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole}}
+}
+
+// Entrance is what a building entrance a plan uses takes: its entry (wall penetration, sleeve
+// or entrance conduit, firestop) when the book prices building_entrance_each, and, when the
+// campus reaches it by a counted lateral of lateralM metres (no pathway drawn), that lateral
+// built as new construction is: trench or bore, restoration of turf, the design's ducts.
+// Cables in the lateral are pulled in duct (LegEnds).
+func Entrance(p *media.PriceBook, d plan.Design, lateralM float64) []media.Quantity {
+	var q []media.Quantity
+	if p.Has(media.PriceEntrance) {
+		q = append(q, media.Quantity{Category: media.CategoryConstruction, Item: "building entrance: penetration, sleeve, firestop",
+			Unit: media.UnitEach, Amount: 1, Price: media.PriceKey{Item: media.PriceEntrance}})
+	}
+	if lateralM > 0 {
+		lat := &geo.Span{Type: geo.TypeDuct, LengthM: lateralM}
+		q = append(q, Opening(lat, MethodOf(p, lat), d.NewDucts)...)
+	}
+	return q
+}
+
+// Crew is amount of a crew task (media.CrewTasks) when the book prices it, else nothing: crew
+// labour is optional, task by task.
+func Crew(p *media.PriceBook, task string, amount float64) []media.Quantity {
+	k := media.PriceKey{Item: media.PriceCrew, Name: task}
+	if _, ok := p.Price(k); !ok || amount == 0 {
+		return nil
+	}
+	return []media.Quantity{{Category: media.CategoryLabour, Item: crewItems[task], Unit: media.UnitEach, Amount: amount, Price: k}}
+}
+
+var crewItems = map[string]string{
+	media.CrewPullSetup:        "crew set-up, per pull section",
+	media.CrewStructureEntry:   "crew entry into a structure, per cable",
+	media.CrewCableEndPrep:     "cable end preparation",
+	media.CrewEnclosureInstall: "enclosure or panel installation",
+}
+
+// PullPoint reports whether a cable's pull breaks at junction j: a structure (site.IsStructure)
+// splits a pull into sections, each set up on its own (media.CrewPullSetup). Handholes the
+// plan adds along new construction and where a route turns are pull points too; those it adds
+// where new pathway joins the network are not counted (README, "One cost model").
+func PullPoint(s *site.Site, j string) bool { return s.IsStructure(j) }
+
+// Entered reports whether a crew enters junction j to pass a cable through it: a maintenance
+// hole or handhole (site.LoopStructure), as for slack loops.
+func Entered(s *site.Site, j string) bool { return s.LoopStructure(j) }
+
+// AtJunctions is the crew labour one cable takes at junctions: share of a pull set-up at each
+// of pullPoints, and share of a structure entry at each of entered (a share of ½ at each end
+// of a span, so that a route passing a junction pays one whole).
+func AtJunctions(p *media.PriceBook, pullPoints, entered float64) []media.Quantity {
+	return append(Crew(p, media.CrewPullSetup, pullPoints), Crew(p, media.CrewStructureEntry, entered)...)
 }
 
 // TurnHandholes is n handholes or pull boxes added where a route turns from one pathway into

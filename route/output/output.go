@@ -289,6 +289,11 @@ type Summary struct {
 	// leg turns between pathways at a handhole the plan adds.
 	CrossingLegs  int `json:"crossing_legs"`
 	TurnHandholes int `json:"turn_handholes"`
+	// RunHandholes counts the handholes placed along new construction (design
+	// handhole_spacing_m and pull_bend_deg), and Entrances the building entrances the plan
+	// uses, each priced when the book prices building_entrance_each.
+	RunHandholes int `json:"run_handholes"`
+	Entrances    int `json:"entrances_used"`
 	// WorstMarginDB is the smallest loss margin of any feasible fibre leg; null when none.
 	WorstMarginDB *float64       `json:"worst_margin_db"`
 	MediaMix      map[string]int `json:"media_mix"` // feasible legs per medium
@@ -373,6 +378,8 @@ func Summarize(r *route.Result) Summary {
 	}
 	if r.Estimate != nil {
 		s.TurnHandholes = len(r.Estimate.Construction.TurnJunctions) // the bill's count, each once
+		s.RunHandholes = len(r.Estimate.Construction.RunHandholes)
+		s.Entrances = len(r.Estimate.Construction.Entrances)
 	}
 	s.ModelCents += r.ExtraCents
 	s.TotalCents = s.ModelCents
@@ -502,8 +509,8 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 	if c.BoreM > 0 {
 		bored = " (" + length(c.BoreM) + " of it bored)"
 	}
-	fmt.Fprintf(w, "construction: new trench %s%s, added duct %s, %d handholes where new pathway joins, %d for added pull points\n",
-		length(c.NewM), bored, length(c.AddedDuctM), len(c.NewJunctions), e.AddedPullPoints)
+	fmt.Fprintf(w, "construction: new trench %s%s, added duct %s, %d handholes where new pathway joins, %d along new construction, %d for added pull points; %d building entrances used\n",
+		length(c.NewM), bored, length(c.AddedDuctM), len(c.NewJunctions), len(c.RunHandholes), e.AddedPullPoints, len(c.Entrances))
 	if len(e.Pulls) > 0 {
 		hi := e.Pulls[0]
 		for _, p := range e.Pulls {

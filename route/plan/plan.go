@@ -126,6 +126,10 @@ type Design struct {
 	PullMaxM            float64 `yaml:"pull_max_m"`             // most metres between pull points; 0 for no limit
 	PullMaxSWBPNPerM    float64 `yaml:"pull_max_swbp_n_per_m"`  // most sidewall bearing pressure at a bend, N/m; 0: not checked
 
+	// New construction: how a proposed pathway is built when the plan opens it.
+	NewDucts         int     `yaml:"new_ducts"`          // ducts laid in each new trench or bore of a duct pathway
+	HandholeSpacingM float64 `yaml:"handhole_spacing_m"` // most metres between pull points along new construction; 0 for no limit
+
 	// Innerduct: when InnerductODMM > 0, every cable laid in a duct goes into an innerduct of
 	// its own, of this outside and inside diameter in millimetres. Duct fill then counts the
 	// innerducts, a cable must fit its innerduct, and the bill adds the innerduct and placing it.
@@ -199,6 +203,11 @@ var Default = Plan{
 		// gets no length limit unless the plan sets one.
 		PullMu:      0.5,
 		PullBendDeg: 180,
+		// Common practice, no published source: a new duct bank carries a spare beside the duct
+		// the plan needs (designers rarely trench for one conduit), and outside-plant duct gets a
+		// handhole about every 150 m; the bend budget between them is pull_bend_deg.
+		NewDucts:         2,
+		HandholeSpacingM: 150,
 	},
 }
 
@@ -358,6 +367,8 @@ var planNumbers = []planNumber{
 	{key: "design.pull_bend_deg", r: input.Range{Min: 0, AboveMin: true, Max: 360, Unit: "degrees"}},
 	{key: "design.pull_max_m", r: input.Range{Min: 0, Max: 100000, Unit: "metres"}},
 	{key: "design.pull_max_swbp_n_per_m", r: input.Range{Min: 0, Max: 100000, Unit: "N/m"}},
+	{key: "design.new_ducts", r: input.Range{Min: 1, Max: 64, Whole: true, Unit: "ducts"}},
+	{key: "design.handhole_spacing_m", r: input.Range{Min: 0, Max: 100000, Unit: "metres"}},
 	{key: "design.innerduct_od_mm", r: input.Range{Min: 0, Max: 1000, Unit: "millimetres"}},
 	{key: "design.innerduct_id_mm", r: input.Range{Min: 0, Max: 1000, Unit: "millimetres"}},
 }

@@ -231,25 +231,57 @@ func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, []de
 		p.NoTransit = lay.noTransit
 	}
 	d := m.design
+	// Handholes along runs of new construction, by span: each is paid with its span, and a
+	// run is opened whole (site.NewRun).
+	runHH := map[string]int{}
+	for _, r := range s.NewRuns(d.HandholeSpacingM, d.PullBendDeg) {
+		for _, h := range r.Handholes {
+			runHH[r.Steps[h.Step].SpanID]++
+		}
+	}
+	if len(runHH) > 0 && d.AllowNewTrench {
+		if err := m.prices.Check(items.KeysOf([]media.Quantity{items.RunHandholes(1)})); err != nil {
+			return nil, nil, err
+		}
+	}
+	// Crew labour a cable takes at a junction, as a share of it (items.AtJunctions).
+	halves := func(js ...string) (pull, entered float64) {
+		for _, j := range js {
+			if items.PullPoint(s, j) {
+				pull += 0.5
+			}
+			if items.Entered(s, j) {
+				entered += 0.5
+			}
+		}
+		return pull, entered
+	}
 	// Duct fill: the optimizer's incremental NFPA 70 Chapter 9 Table 1 packing (nil Fits).
 	for i := range net.Spans {
 		sp := &net.Spans[i]
 		u, v := lay.spanEnds[i][0], lay.spanEnds[i][1]
-		// Half the slack loop at each end's structure: a route passing a structure crosses two
-		// of its spans; the halves at a route's two ends are its demand's (demand).
+		// Half the slack loop and the crew's work at each end's structure: a route passing a
+		// structure crosses two of its spans; the halves at a route's two ends are its
+		// demand's (demand).
 		loops := (items.LoopM(s, d, sp.From) + items.LoopM(s, d, sp.To)) / 2
+		pull, entered := halves(sp.From, sp.To)
+		hh := float64(runHH[sp.ID])
 		e := optimize.Edge{ID: sp.ID, From: int(u), To: int(v), LengthM: sp.LengthM, CableM: items.Wasted(d, sp.LengthM+loops),
-			PerCableCents: m.cents(items.AlongSpan(d, sp.Type, sp.LengthM)...) + m.cents(items.StructureLoops(loops)...),
-			Group:         groups[sp.Group], Flags: m.classBit[classOf(sp)]}
+			PerCableCents: m.cents(items.AlongSpan(d, sp.Type, sp.LengthM)...) + m.cents(items.StructureLoops(loops)...) +
+				m.cents(items.AtJunctions(m.prices, pull+hh, entered+hh)...),
+			Group: groups[sp.Group], Flags: m.classBit[classOf(sp)]}
 		if sp.Type == geo.TypeDuct {
 			e.Flags |= flagDuct
 		}
 		if sp.Status == geo.StatusProposed {
-			open := items.Opening(sp, items.MethodOf(m.prices, sp))
+			open := items.Opening(sp, items.MethodOf(m.prices, sp), d.NewDucts)
 			if err := m.prices.Check(items.KeysOf(open)); err != nil {
 				return nil, nil, err
 			}
 			e.Proposed, e.FixedCents = true, m.cents(open...)
+			if n := runHH[sp.ID]; n > 0 {
+				e.FixedCents += m.cents(items.RunHandholes(n))
+			}
 		} else if sp.Type == geo.TypeDuct {
 			e.Ducts, e.DuctIDMM = sp.SpareDucts, sp.DuctMM
 			// One trench or bore beside the span however many ducts it gets, and the ducts.
@@ -277,8 +309,11 @@ func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, []de
 				e.CableM += items.Wasted(d, loop)
 				e.PerCableCents += m.cents(items.StructureLoops(loop)...)
 			}
+			pull, entered := halves(x.junction)
+			e.PerCableCents += m.cents(items.AtJunctions(m.prices, pull, entered)...)
 		case edgeTurn:
-			e.ID = "turn at " + x.junction
+			// The handhole added where the route turns: a pull point the crew enters.
+			e.ID, e.PerCableCents = "turn at "+x.junction, m.cents(items.AtJunctions(m.prices, 1, 1)...)
 		}
 		p.Edges = append(p.Edges, e)
 	}
@@ -289,6 +324,17 @@ func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, []de
 		hh := m.cents(items.JoinHandholes(1))
 		for _, c := range lay.charges {
 			p.Charges = append(p.Charges, optimize.Charge{ID: "handhole at " + c.junction, Edges: c.edges, Cents: hh})
+		}
+	}
+	// An entrance of a building with several is paid once when a route uses it (those of a
+	// building with one are paid whatever the routes: Routed.ConstantCents).
+	for _, en := range lay.entrances {
+		work := items.Entrance(m.prices, d, en.entry.LateralM)
+		if err := m.prices.Check(items.KeysOf(work)); err != nil {
+			return nil, nil, err
+		}
+		if c := m.cents(work...); c > 0 {
+			p.Charges = append(p.Charges, optimize.Charge{ID: "entrance " + en.entry.ID + " of " + en.building, Edges: en.edges, Cents: c})
 		}
 	}
 	m.layout = lay
@@ -332,6 +378,19 @@ func demand(s *site.Site, m *Model, l *site.Link) (optimize.Demand, demandInfo) 
 	endLoops := (items.LoopM(s, d, src.Junction) + items.LoopM(s, d, dst.Junction)) / 2
 	ends := riser + lateral + coils + endLoops
 	endItems := append(items.LegEnds(riser, coils, lateral), items.StructureLoops(endLoops)...)
+	// The crew: one pull set-up more than the pull points the route passes, the halves at its
+	// ends its spans leave out, and both cable ends prepared.
+	pull, entered := 0.0, 0.0
+	for _, j := range []string{src.Junction, dst.Junction} {
+		if j != "" && items.PullPoint(s, j) {
+			pull += 0.5
+		}
+		if j != "" && items.Entered(s, j) {
+			entered += 0.5
+		}
+	}
+	endItems = append(endItems, items.AtJunctions(m.prices, 1+pull, entered)...)
+	endItems = append(endItems, items.Crew(m.prices, media.CrewCableEndPrep, 2)...)
 	// Inside each end's building: its riser, its service coil and its entrance loop (the
 	// route's own spans inside it are added per leg, fillLeg) — NFPA 70 770.48 counts
 	// unlisted cable from the point of entrance.

@@ -61,6 +61,14 @@ type junctionCharge struct {
 	turns    bool // the junction is split for turns
 }
 
+// entranceEdges are the entrance edges of one entrance of a building with several: a plan
+// pays for the entrance (items.Entrance) once when any of them is used.
+type entranceEdges struct {
+	building string
+	entry    geo.Entry
+	edges    []int
+}
+
 // layout is the optimizer's graph of a site.
 type layout struct {
 	nodes     int
@@ -73,8 +81,9 @@ type layout struct {
 	endEntry  map[string]geo.Entry // a building ending at one entrance: that entrance
 	noTransit []bool
 	charges   []junctionCharge
-	groups    int  // the shared-risk groups the entrance copies use, numbered after the spans'
-	lateral   bool // some entrance edge carries a lateral
+	entrances []entranceEdges // of buildings with several entrances, in building then entrance order
+	groups    int             // the shared-risk groups the entrance copies use, numbered after the spans'
+	lateral   bool            // some entrance edge carries a lateral
 }
 
 // isExtra reports whether edge e is one no span draws, and which.
@@ -238,8 +247,13 @@ func newLayout(s *site.Site, firstGroup int) *layout {
 					e.LateralM = 0 // counted by the demand (endEntry)
 				}
 				l.lateral = l.lateral || e.LateralM > 0
+				var edges []int
 				for _, n := range copies[j] {
+					edges = append(edges, len(net.Spans)+len(l.extra))
 					l.extra = append(l.extra, extraEdge{kind: edgeEntrance, from: v, to: n, building: b.ID, entry: e, junction: e.Junction, group: g})
+				}
+				if len(es) > 1 {
+					l.entrances = append(l.entrances, entranceEdges{building: b.ID, entry: e, edges: edges})
 				}
 			}
 		}

@@ -1,11 +1,14 @@
 package routing
 
 import (
+	"cmp"
 	"context"
 	"fmt"
 	"slices"
+	"strings"
 
 	"spanwright/route/internal/ctxio"
+	"spanwright/route/items"
 	"spanwright/route/optimize"
 	"spanwright/route/site"
 )
@@ -20,9 +23,25 @@ type Routed struct {
 	// structure, by junction ID: where new pathway joins the network, or where a route turns
 	// from one pathway into another.
 	Handholes []Handhole
+	// Runs are the runs of new construction the plan opens, with the handholes along them
+	// (site.NewRuns with the plan's design).
+	Runs []site.NewRun
+	// Entrances are the building entrances the feasible legs use, by building then entrance.
+	Entrances []EntranceUse
 	// ObjectiveCents is the optimizer's objective for the routes it returned
-	// (optimize.Solution.TotalCents): see the README's "One cost model".
+	// (optimize.Solution.TotalCents) plus ConstantCents: see the README's "One cost model".
 	ObjectiveCents int64
+	// ConstantCents is what the plan pays whatever its routes: the entrances of buildings with
+	// one (items.Entrance), used as soon as a leg ends there.
+	ConstantCents int64
+}
+
+// EntranceUse is a building entrance the plan uses.
+type EntranceUse struct {
+	Building string
+	Entrance string  // geo.Entry ID
+	LateralM float64 // its counted lateral, built as new construction (items.Entrance)
+	Single   bool    // the building's only entrance
 }
 
 // Handhole is a handhole the plan adds at a junction without a structure.
@@ -56,9 +75,17 @@ func Solve(ctx context.Context, s *site.Site, m *Model, links []site.Link) (*Rou
 		r.Opened = append(r.Opened, s.Net.Spans[e].ID)
 	}
 	for _, k := range sol.Charged {
+		if k >= len(lay.charges) {
+			continue // an entrance's charge (problem): Entrances, below
+		}
 		c := lay.charges[k]
 		joins := slices.ContainsFunc(sol.Opened, func(e int) bool { return slices.Contains(c.edges, e) })
 		r.Handholes = append(r.Handholes, Handhole{Junction: c.junction, Joins: joins})
+	}
+	for _, run := range s.NewRuns(m.design.HandholeSpacingM, m.design.PullBendDeg) {
+		if slices.Contains(r.Opened, run.Steps[0].SpanID) {
+			r.Runs = append(r.Runs, run)
+		}
 	}
 	infeasible := map[int]string{}
 	for _, in := range sol.Infeasible {
@@ -70,7 +97,46 @@ func Solve(ctx context.Context, s *site.Site, m *Model, links []site.Link) (*Rou
 		}
 		r.Legs = append(r.Legs, legsOf(s, m, prob, &sol.Routes[i], &links[i], infos[i], infeasible[i])...)
 	}
+	r.Entrances = entrancesUsed(lay, r.Legs)
+	for _, e := range r.Entrances {
+		if e.Single {
+			r.ConstantCents += m.cents(items.Entrance(m.prices, m.design, e.LateralM)...)
+		}
+	}
+	r.ObjectiveCents += r.ConstantCents
 	return r, nil
+}
+
+// entrancesUsed lists the entrances feasible legs use, by building then entrance ID.
+func entrancesUsed(lay *layout, legs []Leg) []EntranceUse {
+	seen := map[[2]string]bool{}
+	var out []EntranceUse
+	use := func(b, id string) {
+		if id == "" || seen[[2]string{b, id}] {
+			return
+		}
+		seen[[2]string{b, id}] = true
+		if e, ok := lay.endEntry[b]; ok && e.ID == id {
+			out = append(out, EntranceUse{Building: b, Entrance: id, LateralM: e.LateralM, Single: true})
+			return
+		}
+		for _, en := range lay.entrances {
+			if en.building == b && en.entry.ID == id {
+				out = append(out, EntranceUse{Building: b, Entrance: id, LateralM: en.entry.LateralM})
+				return
+			}
+		}
+	}
+	for i := range legs {
+		if l := &legs[i]; l.Feasible {
+			use(l.Link.To, l.EntranceTo)
+			use(l.Link.From, l.EntranceFrom)
+		}
+	}
+	slices.SortFunc(out, func(a, b EntranceUse) int {
+		return cmp.Or(strings.Compare(a.Building, b.Building), strings.Compare(a.Entrance, b.Entrance))
+	})
+	return out
 }
 
 // Problem is the optimizer's problem Solve states for links: one edge per span of the

@@ -82,9 +82,10 @@ func (s *Site) UnreachableServed(hub string, links []Link) []string {
 }
 
 // JoinsNetwork reports whether an opened span ending at junction j gets a handhole there: j
-// is a junction without a structure that is not a building's entrance (common practice,
-// no published source).
+// is a junction without a structure that is not a building's entrance, where the new pathway
+// joins others or branches, not one inside a run of new construction where it carries on
+// (InRun; common practice, no published source).
 func (s *Site) JoinsNetwork(j string) bool {
 	jn, ok := s.Net.Junction(j)
-	return ok && jn.Kind == geo.JunctionNode && !s.entrance[j]
+	return ok && jn.Kind == geo.JunctionNode && !s.entrance[j] && !s.InRun(j)
 }

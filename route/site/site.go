@@ -25,6 +25,7 @@ type Site struct {
 	part     []int           // by junction index: its connected part of the network, entrances joined (components)
 	spanPart []int           // the same by spans alone (SpanPart)
 	entrance map[string]bool // junction IDs of every entrance and access (JoinsNetwork)
+	interior []bool          // by junction index: inside a run of new construction (InRun)
 	dist     sync.Map        // building ID → map[string]float64, see distancesFrom
 
 	// Solved keeps the optimizer's solutions of the routing problems solved on this site, by
@@ -98,6 +99,7 @@ func NewSite(c *geo.Campus, net *geo.Network) *Site {
 	for _, e := range net.Entrances {
 		s.entrance[e.Junction] = true
 	}
+	s.interior = runInterior(net, s.junction, s.entrance)
 	return s
 }
 
