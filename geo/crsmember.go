@@ -68,18 +68,20 @@ func (l *loader) fileCRS(name string, top map[string]json.RawMessage) (to orb.Pr
 		return nil, 0, true
 	}
 	code, err := crsCode(raw)
-	if err == nil && code != crs.WGS84 {
-		to, err = crs.ToWGS84(code)
-		if err != nil && !errors.Is(err, crs.ErrNoPROJ) {
-			err = problemf(ErrBadValue, "%v", err)
-		}
-		if err != nil {
-			l.errs.Add(&input.Problem{File: name, Key: "crs", Err: err})
-			return nil, code, false
-		}
-	}
 	if err != nil {
 		l.errs.Add(&input.Problem{File: name, Key: "crs", Err: err})
+		return nil, 0, true
+	}
+	if code == crs.WGS84 {
+		return nil, code, true
+	}
+	to, err = crs.ToWGS84(code)
+	if err != nil {
+		if !errors.Is(err, crs.ErrNoPROJ) {
+			err = problemf(ErrBadValue, "%v", err)
+		}
+		l.errs.Add(&input.Problem{File: name, Key: "crs", Err: err})
+		return nil, code, false
 	}
 	return to, code, true
 }
