@@ -3,15 +3,33 @@
 GO ?= go
 BIN := bin/spanwright
 
-.PHONY: build test lint race soak demo golden bench fuzz e2e clean
+.PHONY: build build-proj test test-proj lint race soak demo golden bench fuzz e2e clean
 
 build:
 	$(GO) build -o $(BIN) ./cmd/spanwright
 
-# vet and every test, including the fuzz seed corpora.
+# the binary that reads projected inputs: PROJ through cgo (needs a C compiler, pkg-config
+# and Debian's libproj-dev); see README, "Projected coordinates".
+build-proj:
+	$(GO) build -tags proj -o $(BIN) ./cmd/spanwright
+
+# vet and every test, including the fuzz seed corpora; then test-proj.
 test:
 	$(GO) vet ./...
 	$(GO) test -count=1 ./...
+	$(MAKE) --no-print-directory test-proj
+
+# the tests of geo/... built with PROJ (-tags proj), when pkg-config finds PROJ; skipped
+# with a note otherwise, and a failure under CI=true, which must run them.
+test-proj:
+	@if pkg-config --exists proj 2>/dev/null && [ "$$($(GO) env CGO_ENABLED)" = 1 ]; then \
+		echo "$(GO) vet -tags proj ./geo/..." && $(GO) vet -tags proj ./geo/... && \
+		echo "$(GO) test -count=1 -tags proj ./geo/..." && $(GO) test -count=1 -tags proj ./geo/...; \
+	elif [ "$$CI" = true ]; then \
+		echo "make test-proj: no PROJ found by pkg-config, or no cgo (C compiler); CI needs libproj-dev, pkg-config and gcc (.ci/run installs them)" >&2; exit 1; \
+	else \
+		echo "make test-proj: no PROJ found by pkg-config, or no cgo (apt-get install libproj-dev pkg-config gcc); skipping the -tags proj tests of geo/..." >&2; \
+	fi
 
 # staticcheck (honnef.co/go/tools), installed at a fixed version into Go's bin folder when
 # missing; CI runs it before make test.
@@ -20,6 +38,7 @@ STATICCHECK := $(shell $(GO) env GOPATH)/bin/staticcheck
 lint:
 	test -x $(STATICCHECK) || $(GO) install honnef.co/go/tools/cmd/staticcheck@$(STATICCHECK_VERSION)
 	$(STATICCHECK) ./...
+	if pkg-config --exists proj 2>/dev/null && [ "$$($(GO) env CGO_ENABLED)" = 1 ]; then $(STATICCHECK) -tags proj ./geo/...; fi
 
 # the tests under the race detector (needs cgo and a C compiler; not part of make test): the
 # sweep's worker pool and the caches shared by its scenarios are the concurrent parts.

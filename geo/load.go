@@ -346,8 +346,9 @@ func (l *loader) parseFile(name string, data []byte) {
 		l.fileErr(name, problemf(ErrNotCollection, `not a FeatureCollection: "type" is %q%s`, typ, hint))
 		return
 	}
-	if _, ok := top["crs"]; ok {
-		l.fileErr(name, problemf(ErrProjected, `has a "crs" member, which RFC 7946 removed: reproject to WGS84 longitude/latitude and drop "crs"`))
+	to, code, readable := l.fileCRS(name, top)
+	if !readable {
+		return
 	}
 	var feats []json.RawMessage
 	if f, ok := top["features"]; !ok {
@@ -356,6 +357,9 @@ func (l *loader) parseFile(name string, data []byte) {
 	} else if err := json.Unmarshal(f, &feats); err != nil || feats == nil {
 		l.fileErr(name, problemf(ErrNotCollection, `not a FeatureCollection: want "features" to be an array, got %s`, describeRaw(f)))
 		return
+	}
+	if to != nil {
+		feats = l.toWGS84(name, code, feats, to)
 	}
 	for i, f := range feats {
 		if i%featureCheckEvery == 0 && l.ctx.Err() != nil {
@@ -954,7 +958,7 @@ func checkRange(p orb.Point) error {
 	x, y := p[0], p[1]
 	switch {
 	case math.Abs(x) > projectedM || math.Abs(y) > projectedM:
-		return problemf(ErrProjected, "got [%s, %s]: coordinates look projected (metres or feet?); reproject to WGS84 longitude/latitude",
+		return problemf(ErrProjected, `got [%s, %s]: coordinates look projected (metres or feet?); reproject to WGS84 longitude/latitude, or name their system in a "crs" member of the FeatureCollection ({"type": "name", "properties": {"name": "EPSG:<code>"}}; needs a build with PROJ)`,
 			fmtCoord(x), fmtCoord(y))
 	case math.Abs(x) > 180:
 		return problemf(ErrBadGeometry, "longitude %s outside [-180, 180]", fmtCoord(x))

@@ -47,8 +47,9 @@ func TestParseBad(t *testing.T) {
 		{"out_of_range.geojson", `out_of_range.geojson: feature #1 "P-1": geometry: latitude 95.5 outside [-90, 90] (are longitude and latitude swapped?`, ErrBadGeometry, false},
 		{"short_line.geojson", `short_line.geojson: feature #1 "P-1": geometry: want a line of at least two distinct positions, got 1 position(s)`, ErrBadGeometry, false},
 		{"unclosed_ring.geojson", `unclosed_ring.geojson: feature #0 "B-1": geometry: ring 1: not closed: first position [10, 50], last [10, 50.0003]`, ErrBadGeometry, false},
-		{"crs_member.geojson", `crs_member.geojson: has a "crs" member, which RFC 7946 removed: reproject to WGS84 longitude/latitude`, ErrProjected, false},
-		{"projected.geojson", `projected.geojson: feature #0 "B-1": geometry: ring 1: got [500000, 5538000]: coordinates look projected (metres or feet?); reproject to WGS84 longitude/latitude`, ErrProjected, false},
+		// GeoJSON 2008 §3.1: a linked CRS; spanwright reads only a named one.
+		{"crs_member.geojson", `crs_member.geojson: crs: want {"type": "name", "properties": {"name": …}} naming an EPSG code ("EPSG:32617" or "urn:ogc:def:crs:EPSG::32617") or OGC CRS84, got "type" string "link"; or reproject to WGS84 longitude/latitude and drop "crs"`, ErrBadValue, false},
+		{"projected.geojson", `projected.geojson: feature #0 "B-1": geometry: ring 1: got [500000, 5538000]: coordinates look projected (metres or feet?); reproject to WGS84 longitude/latitude, or name their system in a "crs" member`, ErrProjected, false},
 		{"negative_spare.geojson", `negative_spare.geojson: feature #1 "P-17": property "spare_ducts": want an integer from 0 to 1000000, got -2`, ErrBadValue, false},
 		{"fractional_spare.geojson", `fractional_spare.geojson: feature #1 "P-17": property "spare_ducts": want an integer from 0 to 1000000, got 1.5`, ErrBadValue, false},
 		{"zero_duct.geojson", `zero_duct.geojson: feature #1 "P-1": property "duct_mm": want millimetres above 0 and at most 1000, got 0`, ErrBadValue, false},
