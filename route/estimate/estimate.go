@@ -432,28 +432,38 @@ func (r *run) ductFill() {
 			}
 		}
 	}
-	for _, f := range r.Fill {
-		if !f.Limited {
-			continue
-		}
-		sp, _ := r.Site.Net.Span(f.Span)
-		bank := install.DuctBank{Ducts: f.Ducts + f.AddedDucts, IDMM: sp.DuctMM}
-		a := bank.Assign(ods[f.Span])
+	// pack fills the ducts of a span, existing ones first; ducts from `added` on are new.
+	pack := func(sp *geo.Span, ducts, added int, hint string) {
+		bank := install.DuctBank{Ducts: ducts, IDMM: sp.DuctMM}
+		a := bank.Assign(ods[sp.ID])
 		if a.Err != nil {
-			e.Warnings = append(e.Warnings, fmt.Sprintf("span %s: duct fill: %v", f.Span, a.Err))
-			continue
+			e.Warnings = append(e.Warnings, fmt.Sprintf("span %s: duct fill: %v", sp.ID, a.Err))
+			return
 		}
 		if a.Unplaced > 0 {
-			e.Warnings = append(e.Warnings, fmt.Sprintf("span %s: %d of %d cables fit no duct within NFPA 70 Chapter 9 fill and jam limits",
-				f.Span, a.Unplaced, len(ods[f.Span])))
+			e.Warnings = append(e.Warnings, fmt.Sprintf("span %s: %d of %d cables fit no duct within NFPA 70 Chapter 9 fill and jam limits%s",
+				sp.ID, a.Unplaced, len(ods[sp.ID]), hint))
 		}
 		for d, df := range a.Ducts {
 			if len(df.CablesODMM) == 0 {
 				continue
 			}
-			e.Fill = append(e.Fill, DuctFill{Span: f.Span, PathwayID: f.PathwayID, Duct: d + 1, Added: d >= f.Ducts,
+			e.Fill = append(e.Fill, DuctFill{Span: sp.ID, PathwayID: sp.PathwayID, Duct: d + 1, Added: d >= added,
 				DuctIDMM: sp.DuctMM, CablesODMM: df.CablesODMM, Innerduct: design.Innerduct(), FillPct: df.Pct, AllowedPct: df.AllowedPct,
 				OK: df.OK && !df.JamRisk, JamRatio: df.JamRatio, JamRisk: df.JamRisk})
+		}
+	}
+	for _, f := range r.Fill {
+		if f.Limited {
+			sp, _ := r.Site.Net.Span(f.Span)
+			pack(&sp, f.Ducts+f.AddedDucts, f.Ducts, "")
+		}
+	}
+	// The ducts of new construction: the design's, every one new (items.Opening). The
+	// optimizer does not limit them; a plan whose cables overflow them says so.
+	for _, id := range r.Opened {
+		if sp, _ := r.Site.Net.Span(id); sp.Type == geo.TypeDuct && sp.DuctMM > 0 && len(ods[id]) > 0 {
+			pack(&sp, max(design.NewDucts, 1), 0, "; raise design.new_ducts")
 		}
 	}
 }
