@@ -84,8 +84,19 @@ design: {allow_new_trench: true, innerduct_od_mm: 32, innerduct_id_mm: 27, reel_
 // routeDependent reports whether a bill quantity or line, by its price key, is one of the
 // route-dependent items the optimizer prices (README, "One cost model"): cable, pulls,
 // innerduct, new work, added duct and the handholes where new pathway joins.
-func routeDependent(item string, price, rate media.PriceKey) bool {
+func routeDependent(pb *media.PriceBook, item string, price, rate media.PriceKey) bool {
 	switch price.Item {
+	case media.PriceBidItem:
+		// Those priced per unit of a basis the routes decide (items.BidPer).
+		for _, it := range pb.BidItems {
+			if it.ID == price.Name {
+				switch it.Basis {
+				case media.BasisNewBuriedM, media.BasisStructure, media.BasisCableEnd, media.BasisLeg:
+					return true
+				}
+			}
+		}
+		return false
 	case media.PriceCable, media.PriceInnerduct, media.PriceTrench, media.PriceRestoration, media.PriceBore, media.PriceAddedDuct:
 		return true
 	case media.PriceStructure:
@@ -103,11 +114,11 @@ func routeDependent(item string, price, rate media.PriceKey) bool {
 
 // lineRouteDependent is routeDependent for a bill line, whose labour lines keep their items
 // but not their rate keys: the pulls and the innerduct placing are pulls.
-func lineRouteDependent(l media.BOMLine) bool {
+func lineRouteDependent(pb *media.PriceBook, l media.BOMLine) bool {
 	if l.Unit == media.UnitHour {
 		return strings.HasPrefix(l.Item, "pull cable in ") || l.Item == "place innerduct in duct"
 	}
-	return routeDependent(l.Item, l.Price, media.PriceKey{})
+	return routeDependent(pb, l.Item, l.Price, media.PriceKey{})
 }
 
 // routeLines sums the bill's route-dependent lines, with the most their rounding moves
@@ -116,7 +127,7 @@ func lineRouteDependent(l media.BOMLine) bool {
 func routeLines(b *media.BOM, p *media.PriceBook) (cents int64, bound float64) {
 	hour, _ := p.Price(items.LabourHour)
 	for _, l := range b.Lines {
-		if !lineRouteDependent(l) {
+		if !lineRouteDependent(p, l) {
 			continue
 		}
 		cents += l.ExtendedCents
@@ -221,7 +232,7 @@ func TestOneCostModel(t *testing.T) {
 			var items int64
 			var nItems int
 			for _, q := range r.Estimate.Quantities {
-				if routeDependent(q.Item, q.Price, q.Rate) {
+				if routeDependent(p, q.Item, q.Price, q.Rate) {
 					items += p.Cents(q)
 					nItems++
 				}
@@ -364,6 +375,10 @@ func objectiveOf(r *route.Result, prob *optimize.Problem, pb *media.PriceBook, l
 			for _, q := range items.Entrance(pb, r.Plan.Design, en.LateralM) {
 				c += pb.Cents(q)
 			}
+			for _, q := range items.BidPer(pb, media.BidBases{NewBuriedM: 1}) {
+				q.Amount *= en.LateralM
+				c += pb.Cents(q)
+			}
 			continue
 		}
 		for _, ch := range prob.Charges {
@@ -434,6 +449,12 @@ func TestCostModelMovesWithTheBill(t *testing.T) {
 		{"turf restoration", "turf: 9.00", "turf: 19.00"},
 		{"added duct", "added_duct_per_m: 7.50", "added_duct_per_m: 17.50"},
 		{"handhole", "handhole: 2400.00", "handhole: 4400.00"},
+		{"building entrance", "building_entrance_each: 1250.00", "building_entrance_each: 2000.00"},
+		{"crew pull set-up", "pull_setup: 95.00", "pull_setup: 150.00"},
+		{"crew structure entry", "structure_entry: 40.00", "structure_entry: 70.00"},
+		{"crew cable end", "cable_end_prep: 30.00", "cable_end_prep: 50.00"},
+		{"tracer wire per new metre", "per_m_new_buried: 1.80}", "per_m_new_buried: 3.80}"},
+		{"labelling per cable end", "per_cable_end: 6.00}", "per_cable_end: 9.00}"},
 	}
 	for _, tc := range cases {
 		prob1, pb1 := problem(costBook(t, tc.from, tc.to))

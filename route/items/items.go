@@ -205,6 +205,41 @@ var crewItems = map[string]string{
 	media.CrewEnclosureInstall: "enclosure or panel installation",
 }
 
+// BidPer is what the book's bid items priced per unit of a route-dependent basis take for the
+// amounts in bases (media.PriceBook.BidQuantities): new buried metres, structures passed per
+// cable, cable ends and legs. The optimizer prices these with a route; the bill prices the
+// plan's totals of the same bases (package estimate, bidBases). Lump sums, percentages and the
+// per-span-once bases (aerial metres, existing duct metres) and buildings served are not
+// priced per route (README, "One cost model").
+func BidPer(p *media.PriceBook, bases media.BidBases) []media.Quantity {
+	if len(p.BidItems) == 0 {
+		return nil
+	}
+	var out []media.Quantity
+	qs := p.BidQuantities(media.BidBases{NewBuriedM: bases.NewBuriedM, Structures: bases.Structures,
+		CableEnds: bases.CableEnds, Legs: bases.Legs})
+	for i, it := range nonPercent(p) {
+		switch it.Basis {
+		case media.BasisNewBuriedM, media.BasisStructure, media.BasisCableEnd, media.BasisLeg:
+			if qs[i].Amount != 0 {
+				out = append(out, qs[i])
+			}
+		}
+	}
+	return out
+}
+
+// nonPercent lists the book's bid items BidQuantities lists, in its order.
+func nonPercent(p *media.PriceBook) []media.BidItem {
+	var out []media.BidItem
+	for _, it := range p.BidItems {
+		if it.Basis != media.BasisPercentOf {
+			out = append(out, it)
+		}
+	}
+	return out
+}
+
 // PullPoint reports whether a cable's pull breaks at junction j: a structure (site.IsStructure)
 // splits a pull into sections, each set up on its own (media.CrewPullSetup). Handholes the
 // plan adds along new construction and where a route turns are pull points too; those it adds

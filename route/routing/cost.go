@@ -3,6 +3,7 @@ package routing
 import (
 	"cmp"
 	"fmt"
+	"maps"
 	"math"
 	"slices"
 	"sort"
@@ -268,7 +269,7 @@ func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, []de
 		hh := float64(runHH[sp.ID])
 		e := optimize.Edge{ID: sp.ID, From: int(u), To: int(v), LengthM: sp.LengthM, CableM: items.Wasted(d, sp.LengthM+loops),
 			PerCableCents: m.cents(items.AlongSpan(d, sp.Type, sp.LengthM)...) + m.cents(items.StructureLoops(loops)...) +
-				m.cents(items.AtJunctions(m.prices, pull+hh, entered+hh)...),
+				m.cents(items.AtJunctions(m.prices, pull+hh, entered+hh)...) + m.bidPer(media.BidBases{Structures: 1}, entered),
 			Group: groups[sp.Group], Flags: m.classBit[classOf(sp)]}
 		if sp.Type == geo.TypeDuct {
 			e.Flags |= flagDuct
@@ -278,7 +279,7 @@ func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, []de
 			if err := m.prices.Check(items.KeysOf(open)); err != nil {
 				return nil, nil, err
 			}
-			e.Proposed, e.FixedCents = true, m.cents(open...)
+			e.Proposed, e.FixedCents = true, m.cents(open...)+m.bidPer(media.BidBases{NewBuriedM: 1}, sp.LengthM)
 			if n := runHH[sp.ID]; n > 0 {
 				e.FixedCents += m.cents(items.RunHandholes(n))
 			}
@@ -287,7 +288,8 @@ func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, []de
 			// One trench or bore beside the span however many ducts it gets, and the ducts.
 			work := items.NewWork(sp, items.MethodOf(m.prices, sp), 1)
 			if m.prices.Check(items.KeysOf(append(work, items.AddedDuct(1)))) == nil && m.perM(items.AddedDuct(1)) > 0 {
-				e.AddDuctPerMCents, e.AddTrenchPerMCents = m.perM(items.AddedDuct(1)), m.perM(work...)
+				e.AddDuctPerMCents = m.perM(items.AddedDuct(1))
+				e.AddTrenchPerMCents = m.perM(append(work, items.BidPer(m.prices, media.BidBases{NewBuriedM: 1})...)...)
 			}
 		}
 		p.Edges[i] = e
@@ -310,7 +312,7 @@ func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, []de
 				e.PerCableCents += m.cents(items.StructureLoops(loop)...)
 			}
 			pull, entered := halves(x.junction)
-			e.PerCableCents += m.cents(items.AtJunctions(m.prices, pull, entered)...)
+			e.PerCableCents += m.cents(items.AtJunctions(m.prices, pull, entered)...) + m.bidPer(media.BidBases{Structures: 1}, entered)
 		case edgeTurn:
 			// The handhole added where the route turns: a pull point the crew enters.
 			e.ID, e.PerCableCents = "turn at "+x.junction, m.cents(items.AtJunctions(m.prices, 1, 1)...)
@@ -329,12 +331,17 @@ func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, []de
 	// An entrance of a building with several is paid once when a route uses it (those of a
 	// building with one are paid whatever the routes: Routed.ConstantCents).
 	for _, en := range lay.entrances {
-		work := items.Entrance(m.prices, d, en.entry.LateralM)
-		if err := m.prices.Check(items.KeysOf(work)); err != nil {
+		c, err := m.entranceCents(en.entry.LateralM)
+		if err != nil {
 			return nil, nil, err
 		}
-		if c := m.cents(work...); c > 0 {
+		if c > 0 {
 			p.Charges = append(p.Charges, optimize.Charge{ID: "entrance " + en.entry.ID + " of " + en.building, Edges: en.edges, Cents: c})
+		}
+	}
+	for _, b := range slices.Sorted(maps.Keys(lay.endEntry)) {
+		if _, err := m.entranceCents(lay.endEntry[b].LateralM); err != nil {
+			return nil, nil, err // a counted lateral the book cannot price as new construction
 		}
 	}
 	m.layout = lay
@@ -391,6 +398,8 @@ func demand(s *site.Site, m *Model, l *site.Link) (optimize.Demand, demandInfo) 
 	}
 	endItems = append(endItems, items.AtJunctions(m.prices, 1+pull, entered)...)
 	endItems = append(endItems, items.Crew(m.prices, media.CrewCableEndPrep, 2)...)
+	endItems = append(endItems, items.BidPer(m.prices, media.BidBases{CableEnds: 2, Legs: 1})...)
+	endBid := m.bidPer(media.BidBases{Structures: 1}, entered)
 	// Inside each end's building: its riser, its service coil and its entrance loop (the
 	// route's own spans inside it are added per leg, fillLeg) — NFPA 70 770.48 counts
 	// unlisted cable from the point of entrance.
@@ -439,7 +448,7 @@ func demand(s *site.Site, m *Model, l *site.Link) (optimize.Demand, demandInfo) 
 		// entrance loops and the halves of the structure loops at its ends that its spans leave
 		// out (problem), with waste, and their pulls; a diverse link pays them again for its
 		// second leg, when it gets one.
-		fixed += media.MulCents(perM, items.Wasted(d, ends)) + m.cents(endItems...)
+		fixed += media.MulCents(perM, items.Wasted(d, ends)) + m.cents(endItems...) + endBid
 		second := int64(0)
 		if l.Diverse {
 			second = fixed
@@ -497,6 +506,28 @@ func cableOD(m *media.Medium, strands, copperCables int) float64 {
 		return size.ODMM
 	}
 	return 0
+}
+
+// bidPer prices the bid items per unit of the basis set to 1 in bases (items.BidPer), for
+// amount units.
+func (m *Model) bidPer(bases media.BidBases, amount float64) int64 {
+	var c int64
+	for _, q := range items.BidPer(m.prices, bases) {
+		q.Amount *= amount
+		c += m.prices.Cents(q)
+	}
+	return c
+}
+
+// entranceCents is what using a building entrance costs whatever the cables in it: its entry
+// and its counted lateral built (items.Entrance), with the bid items per metre of new buried
+// work along the lateral.
+func (m *Model) entranceCents(lateralM float64) (int64, error) {
+	work := items.Entrance(m.prices, m.design, lateralM)
+	if err := m.prices.Check(items.KeysOf(work)); err != nil {
+		return 0, err
+	}
+	return m.cents(work...) + m.bidPer(media.BidBases{NewBuriedM: 1}, lateralM), nil
 }
 
 // cents prices quantities one by one (media.PriceBook.Cents) and sums them.

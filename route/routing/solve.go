@@ -8,7 +8,6 @@ import (
 	"strings"
 
 	"spanwright/route/internal/ctxio"
-	"spanwright/route/items"
 	"spanwright/route/optimize"
 	"spanwright/route/site"
 )
@@ -100,7 +99,8 @@ func Solve(ctx context.Context, s *site.Site, m *Model, links []site.Link) (*Rou
 	r.Entrances = entrancesUsed(lay, r.Legs)
 	for _, e := range r.Entrances {
 		if e.Single {
-			r.ConstantCents += m.cents(items.Entrance(m.prices, m.design, e.LateralM)...)
+			c, _ := m.entranceCents(e.LateralM) // checked by problem
+			r.ConstantCents += c
 		}
 	}
 	r.ObjectiveCents += r.ConstantCents
