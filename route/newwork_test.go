@@ -205,3 +205,22 @@ func TestLateralIsNewConstruction(t *testing.T) {
 		t.Errorf("%v m of cable pulled buried: a counted lateral is new duct now", got)
 	}
 }
+
+// TestNoNewTrenchNoAddedDuct: with allow_new_trench false a plan adds no duct beside a full
+// one either, since that needs a trench or bore beside it (README, design keys).
+func TestNoNewTrenchNoAddedDuct(t *testing.T) {
+	t.Parallel()
+	r, err := testplan.PullSolve(t, 25, 1, func(p *plan.Plan) { p.Design.AllowNewTrench = false })
+	if err != nil {
+		t.Fatal(err)
+	}
+	con := r.Estimate.Construction
+	if con.AddedDuctM != 0 || con.NewM != 0 || len(r.Opened) != 0 {
+		t.Errorf("new work with allow_new_trench false: added duct %.1f m, new %.1f m, opened %v", con.AddedDuctM, con.NewM, r.Opened)
+	}
+	for _, f := range r.Fill {
+		if f.AddedDucts > 0 {
+			t.Errorf("span %s: %d ducts added", f.Span, f.AddedDucts)
+		}
+	}
+}

@@ -285,9 +285,10 @@ func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, []de
 			}
 		} else if sp.Type == geo.TypeDuct {
 			e.Ducts, e.DuctIDMM = sp.SpareDucts, sp.DuctMM
-			// One trench or bore beside the span however many ducts it gets, and the ducts.
+			// One trench or bore beside the span however many ducts it gets, and the ducts;
+			// new civil work, so only when the plan allows new trench.
 			work := items.NewWork(sp, items.MethodOf(m.prices, sp), 1)
-			if m.prices.Check(items.KeysOf(append(work, items.AddedDuct(1)))) == nil && m.perM(items.AddedDuct(1)) > 0 {
+			if d.AllowNewTrench && m.prices.Check(items.KeysOf(append(work, items.AddedDuct(1)))) == nil && m.perM(items.AddedDuct(1)) > 0 {
 				e.AddDuctPerMCents = m.perM(items.AddedDuct(1))
 				e.AddTrenchPerMCents = m.perM(append(work, items.BidPer(m.prices, media.BidBases{NewBuriedM: 1})...)...)
 			}
