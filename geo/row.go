@@ -48,6 +48,10 @@ type Row struct {
 	// NULL. GeometryErr, when not nil, says why it could not be (Geometry is then ignored).
 	Geometry    orb.Geometry
 	GeometryErr error
+	// Unprojected marks a Geometry left in its table's own coordinate system, which cannot be
+	// taken to WGS84 (a problem the table's reader reports once): its type is checked, its
+	// coordinates are not, and the campus fails anyway.
+	Unprojected bool
 }
 
 // Value is a column value of a type no property takes (a date, a blob), named for messages.
@@ -72,7 +76,7 @@ func (r *Reader) Row(row Row) {
 		f.props = map[string]any{}
 	}
 	geom, gerr := row.Geometry, row.GeometryErr
-	if gerr == nil {
+	if gerr == nil && !(row.Unprojected && geom != nil) {
 		geom, gerr = checkGeometry(geom)
 	}
 	f.check(nil, geom, gerr, row.Kind)
