@@ -1021,7 +1021,7 @@ func checkRange(p orb.Point) error {
 	case math.Abs(y) > 90:
 		hint := ""
 		if math.Abs(x) <= 90 {
-			hint = " (are longitude and latitude swapped? GeoJSON puts longitude first)"
+			hint = " (are longitude and latitude swapped? GeoJSON and GeoPackage put longitude first)"
 		}
 		return problemf(ErrBadGeometry, "latitude %s outside [-90, 90]%s", fmtCoord(y), hint)
 	}
