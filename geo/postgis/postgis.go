@@ -244,6 +244,27 @@ func (d *reader) table(ctx context.Context, t table) {
 		d.fail(t.name, err)
 		return
 	}
+	// The systems the table's rows use, looked up before its rows are read: a connection
+	// runs one query at a time.
+	srids := map[int32]crsOf{}
+	sridRows, err := d.tx.Query(ctx, fmt.Sprintf("SELECT DISTINCT ST_SRID(%s) FROM %s WHERE %s IS NOT NULL ORDER BY 1",
+		ident(t.geom), pgx.Identifier{t.schema, t.name}.Sanitize(), ident(t.geom)))
+	if err != nil {
+		d.fail(t.name, fmt.Errorf("query: %w", err))
+		return
+	}
+	used, err := pgx.CollectRows(sridRows, pgx.RowTo[int32])
+	if err != nil {
+		d.fail(t.name, fmt.Errorf("query: %w", err))
+		return
+	}
+	for _, srid := range used {
+		c := d.projection(ctx, srid)
+		srids[srid] = c
+		if c.err != nil {
+			d.fail(t.name, c.err)
+		}
+	}
 	var sel strings.Builder
 	fmt.Fprintf(&sel, "SELECT %s::bigint, ST_AsBinary(%s), ST_SRID(%s)", ident(pk.name), ident(t.geom), ident(t.geom))
 	for _, c := range cols {
@@ -257,7 +278,6 @@ func (d *reader) table(ctx context.Context, t table) {
 	}
 	defer rows.Close()
 	kind := geo.TableKind(t.name)
-	srids := map[int32]crsOf{}
 	for n := 0; rows.Next(); n++ {
 		if n%rowCheckEvery == 0 && d.r.Err() != nil {
 			return
@@ -275,16 +295,13 @@ func (d *reader) table(ctx context.Context, t table) {
 		if wkb, ok := vals[1].([]byte); ok {
 			srid, _ := vals[2].(int32)
 			c, seen := srids[srid]
-			if !seen {
-				c = d.projection(ctx, srid)
+			if !seen { // not met in the look-up: the transaction's one snapshot rules it out
+				c.err = fmt.Errorf("%w: SRID %d appeared while the table was read", geo.ErrCRS, srid)
 				srids[srid] = c
-				if c.err != nil {
-					d.fail(t.name, c.err)
-				}
+				d.fail(t.name, c.err)
 			}
-			proj := c.proj
 			row.Unprojected = c.err != nil
-			row.Geometry, row.GeometryErr = geo.DecodeWKB(wkb, proj)
+			row.Geometry, row.GeometryErr = geo.DecodeWKB(wkb, c.proj)
 		}
 		d.r.Row(row)
 	}
