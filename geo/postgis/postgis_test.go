@@ -12,7 +12,7 @@ import (
 
 	"spanwright/geo"
 	"spanwright/geo/input"
-	"spanwright/geo/internal/pgtest"
+	"spanwright/internal/pgtest"
 )
 
 const demo = "../../testdata/demo/campus.geojson"
