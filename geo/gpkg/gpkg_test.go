@@ -141,6 +141,15 @@ func TestDemoAsGeoPackage(t *testing.T) {
 			if _, err := os.Stat(path + "-journal"); err == nil {
 				t.Errorf("reading left a journal beside %s", path)
 			}
+			// The connection Read opens refuses to write (SQLite URI mode=ro, PRAGMA query_only).
+			db, err := sql.Open("sqlite", dsn(path))
+			if err != nil {
+				t.Fatal(err)
+			}
+			defer db.Close()
+			if _, err := db.Exec("CREATE TABLE written (x INTEGER)"); err == nil {
+				t.Errorf("a connection of Read could write to %s", path)
+			}
 		})
 	}
 }
