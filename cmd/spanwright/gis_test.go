@@ -191,3 +191,38 @@ func TestPlanFromPostGIS(t *testing.T) {
 		t.Errorf("check --campus-db: status %d, %s\n%s", code, msg, out)
 	}
 }
+
+// TestCheckBrokenGeoPackage converts bad GeoJSON fixtures with ogr2ogr (gdal-bin) into the
+// tables of one GeoPackage and checks that `check` exits with status 2 and reports each
+// fixture's problem at its table and fid, in messages that show no Go.
+func TestCheckBrokenGeoPackage(t *testing.T) {
+	t.Parallel()
+	ogr2ogr := pgtest.Need(t, "ogr2ogr", "gdal-bin")
+	path := filepath.Join(t.TempDir(), "bad.gpkg")
+	for i, f := range []string{"unknown_type", "zero_duct", "unknown_role"} {
+		args := []string{"-f", "GPKG", path, "../../testdata/bad/" + f + ".geojson", "-nln", f}
+		if i > 0 {
+			args = append([]string{"-update"}, args...)
+		}
+		if out, err := exec.Command(ogr2ogr, args...).CombinedOutput(); err != nil {
+			t.Fatalf("ogr2ogr: %v\n%s", err, out)
+		}
+	}
+	_, msg, code := run(t, "check", path)
+	if code != exitInvalid {
+		t.Errorf("status %d, want %d: %s", code, exitInvalid, msg)
+	}
+	if m := goWords.FindString(msg); m != "" {
+		t.Errorf("message shows Go (%q):\n%s", m, msg)
+	}
+	// The fixtures' features, numbered from 1 by ogr2ogr in file order.
+	for _, want := range []string{
+		path + `: table unknown_type fid 2 (id "P-1"): property "type": want one of "duct", "tunnel", "aerial", "buried", "tray", got string "conduit"`,
+		path + `: table zero_duct fid 2 (id "P-1"): property "duct_mm": want millimetres above 0 and at most 1000, got 0`,
+		path + `: table unknown_role fid 1 (id "B-1"): property "role": want one of "mc", "ic", got string "hub"`,
+	} {
+		if !strings.Contains(msg, want) {
+			t.Errorf("no problem\n  %s\nin\n%s", want, msg)
+		}
+	}
+}
