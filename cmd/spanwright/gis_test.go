@@ -190,6 +190,30 @@ func TestPlanFromPostGIS(t *testing.T) {
 	if out, msg, code := run(t, "check", "--campus-db", db); code != exitInfeasible && code != exitOK || !strings.Contains(out, "buildings") {
 		t.Errorf("check --campus-db: status %d, %s\n%s", code, msg, out)
 	}
+
+	// A sweep of the plan without a campus, given the database on the command line: its
+	// scenario with the demo's own hub writes the demo's routes.
+	sweepFile := filepath.Join(dir, "sweep.yaml")
+	if err := os.WriteFile(sweepFile, []byte("base: plan-bare.yaml\nvary:\n  hub: [ADM, ENG]\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out := filepath.Join(t.TempDir(), "sweep")
+	for pass := 0; pass < 2; pass++ { // the second with --resume, which plans again
+		stdout, msg, code := run(t, "sweep", sweepFile, "--quiet", "--resume", "--out", out, "--campus-db", db)
+		if code != exitOK && code != exitInfeasible {
+			t.Fatalf("sweep --campus-db: status %d: %s", code, msg)
+		}
+		if strings.Contains(stdout, "unchanged, kept") || !strings.Contains(stdout, "2 scenarios: 2 ok") {
+			t.Errorf("pass %d: a scenario that reads a database was skipped:\n%s", pass, stdout)
+		}
+	}
+	matches, _ := filepath.Glob(filepath.Join(out, "adm-*", "routes.geojson"))
+	if len(matches) != 1 {
+		t.Fatalf("sweep: %d scenario folders of hub ADM with routes.geojson", len(matches))
+	}
+	if got, _ := os.ReadFile(matches[0]); string(got) != string(want["routes.geojson"]) {
+		t.Errorf("%s differs from the plan's routes.geojson", matches[0])
+	}
 }
 
 // TestCheckBrokenGeoPackage converts bad GeoJSON fixtures with ogr2ogr (gdal-bin) into the
