@@ -23,6 +23,10 @@ var ErrDatabase = errors.New("unreadable campus database")
 // rowCheckEvery is how many rows a table's reading takes between two looks at the context.
 const rowCheckEvery = 256
 
+// connectTimeout bounds the connection to the server when the connection string sets no
+// connect_timeout of its own: an unreachable host is reported rather than waited for.
+const connectTimeout = 30 * time.Second
+
 // closeTimeout bounds the goodbye to the server once the reading is done or stopped.
 const closeTimeout = 5 * time.Second
 
@@ -44,7 +48,8 @@ func name(cfg *pgx.ConnConfig) string {
 // connection string or URI; the password may also come from PGPASSWORD or a password file,
 // as libpq reads them) into r: every table with a geometry column (geometry_columns) in the
 // connection's current schema (the first of its search_path), tables in name order, rows in
-// primary key order. It reads inside one read-only, repeatable-read transaction, with
+// primary key order. It waits connectTimeout for the server unless the string sets
+// connect_timeout. It reads inside one read-only, repeatable-read transaction, with
 // SELECT statements only, and rolls it back. Problems, each naming the database (never its
 // password) and the table (and the row's fid, its primary key), go to r.
 func Read(ctx context.Context, r *geo.Reader, connString string) {
@@ -55,6 +60,9 @@ func Read(ctx context.Context, r *geo.Reader, connString string) {
 		r.Problem(&input.Problem{File: Name(connString), Err: input.Errorf(ErrDatabase,
 			"the connection string does not parse (it is not shown, as it may hold a password); want a libpq key=value string or a postgresql:// URI")})
 		return
+	}
+	if cfg.ConnectTimeout == 0 {
+		cfg.ConnectTimeout = connectTimeout
 	}
 	db := &reader{r: r, name: name(cfg), password: cfg.Password}
 	conn, err := pgx.ConnectConfig(ctx, cfg)
