@@ -6,7 +6,10 @@ import (
 	"encoding/binary"
 	"errors"
 	"fmt"
+	"io"
+	"io/fs"
 	"net/url"
+	"os"
 	"strconv"
 	"strings"
 	"time"
@@ -52,7 +55,7 @@ func Read(ctx context.Context, r *geo.Reader, path string, maxBytes int64) {
 		fileErr(fmt.Errorf("read: %w", input.Cause(err)))
 		return
 	}
-	db, err := sql.Open("sqlite", dsn(path))
+	db, err := sql.Open("sqlite", dsn(path, settled(path)))
 	if err != nil {
 		fileErr(fmt.Errorf("open: %w", err))
 		return
@@ -78,14 +81,38 @@ func Read(ctx context.Context, r *geo.Reader, path string, maxBytes int64) {
 }
 
 // dsn is the SQLite URI of path opened read-only (SQLite, "URI Filenames": mode=ro), with
-// the statements that could write refused as well (PRAGMA query_only).
-func dsn(path string) string {
+// the statements that could write refused as well (PRAGMA query_only); immutable for a file
+// that nothing can be writing (settled), so that SQLite creates nothing beside it.
+func dsn(path string, immutable bool) string {
 	u := url.URL{Scheme: "file", Opaque: escapePath(path)}
 	q := url.Values{}
 	q.Set("mode", "ro")
+	if immutable {
+		q.Set("immutable", "1")
+	}
 	q.Add("_pragma", "query_only(1)")
 	u.RawQuery = q.Encode()
 	return u.String()
+}
+
+// settled reports whether path is an SQLite database in WAL mode (file format write version
+// 2, byte 18 of the header: SQLite, "Database File Format" §1.3) without a -wal file beside
+// it: no change is pending, and none is being made. Opened with mode=ro alone, SQLite would
+// create the -wal and -shm files beside it and leave them there; opened immutable, it reads
+// the file as it is. A database in rollback-journal mode (GDAL writes GeoPackages so) needs
+// nothing beside it to be read, and a WAL database with its -wal file must be read with it.
+func settled(path string) bool {
+	f, err := os.Open(path)
+	if err != nil {
+		return false
+	}
+	defer f.Close()
+	var h [100]byte
+	if _, err := io.ReadFull(f, h[:]); err != nil || string(h[:16]) != "SQLite format 3\x00" || h[18] != 2 {
+		return false
+	}
+	_, err = os.Lstat(path + "-wal")
+	return errors.Is(err, fs.ErrNotExist)
 }
 
 // escapePath percent-encodes what SQLite's URI parser would read as other than the path.

@@ -142,7 +142,7 @@ func TestDemoAsGeoPackage(t *testing.T) {
 				t.Errorf("reading left a journal beside %s", path)
 			}
 			// The connection Read opens refuses to write (SQLite URI mode=ro, PRAGMA query_only).
-			db, err := sql.Open("sqlite", dsn(path))
+			db, err := sql.Open("sqlite", dsn(path, false))
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -401,5 +401,44 @@ func TestStops(t *testing.T) {
 	Read(ctx, r, path, 0)
 	if _, err := r.Campus(); !errors.Is(err, context.Canceled) {
 		t.Errorf("got %v, want context.Canceled", err)
+	}
+}
+
+// TestWALLeftAlone reads a GeoPackage in WAL mode (SQLite "Write-Ahead Logging"): it reads
+// as the same campus, and the reading creates no -wal or -shm file beside it.
+func TestWALLeftAlone(t *testing.T) {
+	t.Parallel()
+	ogr2ogr := needTool(t, "ogr2ogr")
+	dir := t.TempDir()
+	path := filepath.Join(dir, "campus.gpkg")
+	run(t, ogr2ogr, "-f", "GPKG", path, demo)
+	db, err := sql.Open("sqlite", "file:"+path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var mode string
+	if err := db.QueryRow("PRAGMA journal_mode = WAL").Scan(&mode); err != nil || mode != "wal" {
+		t.Fatalf("journal_mode %q, %v", mode, err)
+	}
+	db.Close()
+	names := func() []string {
+		es, _ := os.ReadDir(dir)
+		var out []string
+		for _, e := range es {
+			out = append(out, e.Name())
+		}
+		return out
+	}
+	before := names()
+	got, err := read(t, path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if after := names(); !reflect.DeepEqual(after, before) {
+		t.Errorf("the folder held %v before the reading, %v after", before, after)
+	}
+	want, _ := geo.Load([]string{demo})
+	if !reflect.DeepEqual(placeless(got), placeless(want)) {
+		t.Error("the campus read from the WAL GeoPackage differs from the GeoJSON's")
 	}
 }
