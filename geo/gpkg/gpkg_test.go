@@ -4,6 +4,7 @@ import (
 	"context"
 	"database/sql"
 	"encoding/binary"
+	"encoding/json"
 	"errors"
 	"math"
 	"os"
@@ -440,5 +441,66 @@ func TestWALLeftAlone(t *testing.T) {
 	want, _ := geo.Load([]string{demo})
 	if !reflect.DeepEqual(placeless(got), placeless(want)) {
 		t.Error("the campus read from the WAL GeoPackage differs from the GeoJSON's")
+	}
+}
+
+// TestWithGeoJSON reads one campus from a GeoJSON file without the demo's entrances and a
+// GeoPackage holding them alone (table entrances, by ogr2ogr): the entrances name buildings
+// of the other source, and the campus is the demo's. A GeoPackage named twice is refused once.
+func TestWithGeoJSON(t *testing.T) {
+	t.Parallel()
+	ogr2ogr := needTool(t, "ogr2ogr")
+	dir := t.TempDir()
+	data, err := os.ReadFile(demo)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var fc struct {
+		Type     string           `json:"type"`
+		Features []map[string]any `json:"features"`
+	}
+	if err := json.Unmarshal(data, &fc); err != nil {
+		t.Fatal(err)
+	}
+	var rest []map[string]any
+	for _, f := range fc.Features {
+		if f["properties"].(map[string]any)["kind"] != geo.KindEntrance {
+			rest = append(rest, f)
+		}
+	}
+	if len(rest) == len(fc.Features) {
+		t.Fatal("the demo has no entrances")
+	}
+	fc.Features = rest
+	noEntrances := filepath.Join(dir, "rest.geojson")
+	out, _ := json.Marshal(fc)
+	if err := os.WriteFile(noEntrances, out, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	path := filepath.Join(dir, "entrances.gpkg")
+	run(t, ogr2ogr, "-f", "GPKG", path, demo, "-nln", geo.TableEntrances, "-where", "kind = 'entrance'")
+
+	r := geo.NewReader(context.Background())
+	r.ReadFile(noEntrances, 0)
+	Read(context.Background(), r, path, 0)
+	got, err := r.Campus()
+	if err != nil {
+		t.Fatal(err)
+	}
+	want, _ := geo.Load([]string{demo})
+	if !reflect.DeepEqual(placeless(got), placeless(want)) {
+		t.Error("the campus read from GeoJSON and a GeoPackage differs from the demo's")
+	}
+	if !reflect.DeepEqual(got.Files, []string{noEntrances, path}) {
+		t.Errorf("Files %v", got.Files)
+	}
+
+	r = geo.NewReader(context.Background())
+	Read(context.Background(), r, path, 0)
+	Read(context.Background(), r, filepath.Join(dir, ".", "entrances.gpkg"), 0)
+	_, err = r.Campus()
+	var ps *input.Problems
+	if !errors.As(err, &ps) || ps.Len() < 1 || !strings.Contains(ps.List[0].Error(), "the same file as "+path+", given twice") {
+		t.Errorf("got %v, want the file refused as given twice", err)
 	}
 }
