@@ -25,7 +25,10 @@ var floors = map[string]int{
 	"route/fileset":            0,
 	"route/internal/ctxio":     0,
 	"route/internal/campusgen": 0,
+	"internal/pgtest":          0, // tests only: a throwaway PostgreSQL with PostGIS
 	"geo":                      1,
+	"geo/gpkg":                 2,
+	"geo/postgis":              2,
 	"route/workbook":           1,
 	"media":                    2,
 	"route/plan":               3,

@@ -236,7 +236,7 @@ type builder struct {
 }
 
 func (b *builder) add(src Source, id, prop string, err error) {
-	b.errs.Add(&input.Problem{File: src.File, Feature: &input.Feature{Index: src.Index, ID: id}, Key: prop, Err: err})
+	b.errs.Add(&input.Problem{File: src.File, Feature: src.Feature(id), Key: prop, Err: err})
 }
 
 func finite(p orb.Point) bool {
@@ -1226,18 +1226,11 @@ func (b *builder) warnings() []Warning {
 		if x.id != y.id {
 			return x.id < y.id
 		}
-		if x.src.File != y.src.File {
-			return x.src.File < y.src.File
-		}
-		return x.src.Index < y.src.Index
+		return x.src.compare(y.src) < 0
 	})
 	var out []Warning
 	for _, w := range b.warns {
-		feat := fmt.Sprintf("#%d", w.src.Index)
-		if w.id != "" {
-			feat += " (" + w.id + ")"
-		}
-		out = append(out, Warning{File: w.src.File, Feature: feat, Message: w.msg})
+		out = append(out, Warning{File: w.src.File, Feature: w.src.Short(w.id), Message: w.msg})
 	}
 	return out
 }

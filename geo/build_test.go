@@ -26,14 +26,14 @@ func ml(xy ...float64) orb.LineString {
 }
 
 func pw(id string, lines ...orb.LineString) Pathway {
-	return Pathway{Source: Source{"t.geojson", 0}, ID: id, Type: TypeDuct, Status: StatusExisting,
+	return Pathway{Source: Source{File: "t.geojson", Index: 0}, ID: id, Type: TypeDuct, Status: StatusExisting,
 		SpareDucts: 1, DuctMM: DefaultDuctMM, EMI: EMINone, Group: id, Lines: lines}
 }
 
 // box is a square building of side 2h metres centred on (x, y).
 func box(id string, x, y, h float64) Building {
 	r := orb.Ring{at(x-h, y-h), at(x+h, y-h), at(x+h, y+h), at(x-h, y+h), at(x-h, y-h)}
-	return Building{Source: Source{"t.geojson", 0}, ID: id, RiserM: DefaultRiserM, Footprint: orb.MultiPolygon{{r}}}
+	return Building{Source: Source{File: "t.geojson", Index: 0}, ID: id, RiserM: DefaultRiserM, Footprint: orb.MultiPolygon{{r}}}
 }
 
 func build(t *testing.T, c *Campus) *Network {
@@ -188,7 +188,7 @@ func TestBuildNoding(t *testing.T) {
 			name: "structure off the pathways warns",
 			c: Campus{
 				Pathways:   []Pathway{pw("P", ml(0, 0, 100, 0))},
-				Structures: []Structure{{Source: Source{"t.geojson", 3}, ID: "HH-9", Point: at(50, 5)}},
+				Structures: []Structure{{Source: Source{File: "t.geojson", Index: 3}, ID: "HH-9", Point: at(50, 5)}},
 			},
 			wantSpans: 1, wantJunctions: 2, wantWarnings: 1,
 			check: func(t *testing.T, n *Network) {
@@ -218,8 +218,8 @@ func TestBuildNoding(t *testing.T) {
 			c: Campus{
 				Pathways: []Pathway{pw("P", ml(0, 0, 50, 0, 100, 0))},
 				Structures: []Structure{
-					{Source: Source{"t.geojson", 1}, ID: "HH-1", Point: at(50, 0.1)},
-					{Source: Source{"t.geojson", 2}, ID: "HH-2", Point: at(50, -0.1)},
+					{Source: Source{File: "t.geojson", Index: 1}, ID: "HH-1", Point: at(50, 0.1)},
+					{Source: Source{File: "t.geojson", Index: 2}, ID: "HH-2", Point: at(50, -0.1)},
 				},
 			},
 			wantSpans: 2, wantJunctions: 3, wantWarnings: 1,
@@ -613,7 +613,7 @@ func TestLateralBesideParallelEdge(t *testing.T) {
 func TestLateralToSlantedPathway(t *testing.T) {
 	t.Parallel()
 	r := orb.Ring{at(-100, 0), at(100, 0), at(100, 5), at(-100, 5), at(-100, 0)}
-	c := &Campus{Buildings: []Building{{Source: Source{"t.geojson", 0}, ID: "B", RiserM: DefaultRiserM, Footprint: orb.MultiPolygon{{r}}}},
+	c := &Campus{Buildings: []Building{{Source: Source{File: "t.geojson", Index: 0}, ID: "B", RiserM: DefaultRiserM, Footprint: orb.MultiPolygon{{r}}}},
 		Pathways: []Pathway{pw("P", ml(-100, 7, 100, 27))}}
 	n, err := Build(c, Options{MaxLateralM: 10})
 	if err != nil {

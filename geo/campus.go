@@ -1,6 +1,14 @@
 package geo
 
-import "github.com/paulmach/orb"
+import (
+	"cmp"
+	"fmt"
+	"strings"
+
+	"github.com/paulmach/orb"
+
+	"spanwright/geo/input"
+)
 
 // Feature kinds, the values of the "kind" property.
 const (
@@ -59,11 +67,48 @@ const DefaultRiserM = 15.0
 // DefaultDuctMM is a pathway's inner duct diameter in millimetres when duct_mm is absent.
 const DefaultDuctMM = 100.0
 
-// Source locates a feature in the input: the file name and the 0-based index of the feature
-// in that file's FeatureCollection.
+// Source locates a feature in the input: the file name (for a database, its connection
+// string without the password) and either the 0-based index of the feature in that file's
+// FeatureCollection or, for a feature read from a table (a GeoPackage's, a database's), the
+// table and the row's feature id.
 type Source struct {
 	File  string
-	Index int
+	Index int    // in a GeoJSON file's features
+	Table string // "" for a GeoJSON feature
+	FID   int64  // the row's feature id (its integer primary key) in Table
+}
+
+// Feature names the feature of id ("" for none) at s, for a problem.
+func (s Source) Feature(id string) *input.Feature {
+	return &input.Feature{Index: s.Index, ID: id, Table: s.Table, FID: s.FID}
+}
+
+// String names the place for a message that points at another feature: `campus.geojson
+// feature #3` or `campus.gpkg table pathways fid 12`.
+func (s Source) String() string {
+	if s.Table != "" {
+		return fmt.Sprintf("%s table %s fid %d", s.File, input.TableName(s.Table), s.FID)
+	}
+	return fmt.Sprintf("%s feature #%d", s.File, s.Index)
+}
+
+// Short names the feature of id within its file, for a warning: `#47 (SR-3)` or
+// `table campus fid 48 (SR-3)`.
+func (s Source) Short(id string) string {
+	at := fmt.Sprintf("#%d", s.Index)
+	if s.Table != "" {
+		at = fmt.Sprintf("table %s fid %d", input.TableName(s.Table), s.FID)
+	}
+	if id != "" {
+		at += " (" + id + ")"
+	}
+	return at
+}
+
+// compare orders sources: by file, then index or table and feature id.
+func (s Source) compare(t Source) int {
+	return cmp.Or(strings.Compare(s.File, t.File), cmp.Compare(s.Index, t.Index),
+		strings.Compare(s.Table, t.Table), cmp.Compare(s.FID, t.FID))
 }
 
 // Building is a footprint polygon that may host a cross-connect.
@@ -112,11 +157,11 @@ type Entrance struct {
 	Point    orb.Point
 }
 
-// Campus is everything read from one or more GeoJSON files, in an order that does not depend
+// Campus is everything read from one or more GeoJSON files, GeoPackages or databases, in an order that does not depend
 // on the order of the features or files: buildings, pathways and structures by id, entrances
 // by building and point.
 type Campus struct {
-	Files      []string
+	Files      []string // the files read, which outputs must never overwrite (not a database)
 	Buildings  []Building
 	Pathways   []Pathway
 	Structures []Structure

@@ -33,7 +33,7 @@ func twoStreets() Campus {
 			pw("L1", ml(0, -50, 0, -5)),
 			pw("L2", ml(60, 0, 5, 0)),
 		},
-		Structures: []Structure{{Source: Source{"t.geojson", 9}, ID: "MH-1", Type: StructureMaintenanceHole, Point: at(60, -50)}},
+		Structures: []Structure{{Source: Source{File: "t.geojson", Index: 9}, ID: "MH-1", Type: StructureMaintenanceHole, Point: at(60, -50)}},
 	}
 }
 
@@ -79,9 +79,9 @@ func TestEntrancesDeclaredAndFootprint(t *testing.T) {
 		Buildings: []Building{box("B", 0, 0, 10)},
 		Pathways:  []Pathway{pw("S", ml(-100, -20, 50, -20, 100, -20)), pw("L", ml(50, -20, 0, 8))},
 		Entrances: []Entrance{
-			{Source: Source{"t.geojson", 3}, ID: "E1", Building: "B", Point: at(0, -20)},
-			{Source: Source{"t.geojson", 4}, ID: "E2", Building: "B", Point: at(-30, 0)},
-			{Source: Source{"t.geojson", 5}, ID: "E3", Building: "B", Point: at(0, 200)},
+			{Source: Source{File: "t.geojson", Index: 3}, ID: "E1", Building: "B", Point: at(0, -20)},
+			{Source: Source{File: "t.geojson", Index: 4}, ID: "E2", Building: "B", Point: at(-30, 0)},
+			{Source: Source{File: "t.geojson", Index: 5}, ID: "E3", Building: "B", Point: at(0, 200)},
 		},
 	}
 	n := build(t, &c)
@@ -143,8 +143,8 @@ func TestEntrancesIgnoreOrderNamesAndSplits(t *testing.T) {
 	base.Pathways[1] = pw("E", ml(60, -50, 60, 0, 60, 30, 60, 100))
 	base.Pathways = append(base.Pathways, pw("L3", ml(60, 30, 195, 5)), pw("L4", ml(60, 80, 200, 6)))
 	base.Entrances = []Entrance{
-		{Source: Source{"t.geojson", 20}, Building: "C", Point: at(185, -10)},
-		{Source: Source{"t.geojson", 21}, ID: "C-N", Building: "C", Point: at(150, 40)},
+		{Source: Source{File: "t.geojson", Index: 20}, Building: "C", Point: at(185, -10)},
+		{Source: Source{File: "t.geojson", Index: 21}, ID: "C-N", Building: "C", Point: at(150, 40)},
 	}
 	same := func(s string) string { return s }
 	n := build(t, &base)

@@ -62,7 +62,7 @@ func TestPassAtTJunction(t *testing.T) {
 		t.Errorf("by hand: got %q %v", got, ok)
 	}
 
-	c.Structures = []Structure{{Source: Source{"t.geojson", 2}, ID: "MH-1", Type: StructureMaintenanceHole, Point: at(100, 0)}}
+	c.Structures = []Structure{{Source: Source{File: "t.geojson", Index: 2}, ID: "MH-1", Type: StructureMaintenanceHole, Point: at(100, 0)}}
 	n = build(t, &c)
 	if m, _ := n.MeetingAt("MH-1"); !m.Structure || m.Degree != 3 {
 		t.Errorf("with MH-1: meeting %+v", m)

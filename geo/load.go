@@ -123,43 +123,14 @@ func LoadContext(ctx context.Context, paths []string) (*Campus, error) {
 
 // LoadLimitContext is LoadLimit that gives up when ctx is done, as LoadContext.
 func LoadLimitContext(ctx context.Context, paths []string, maxBytes int64) (*Campus, error) {
-	l := newLoader()
-	l.ctx = ctx
-	max := input.Cap(maxBytes, input.DefaultDataMiB)
-	var seen []struct {
-		path string
-		info os.FileInfo
-	}
+	r := NewReader(ctx)
 	for _, p := range paths {
 		if err := ctx.Err(); err != nil {
 			return nil, err
 		}
-		// The same file named twice (by the same or another path) would make every one of
-		// its ids a duplicate: say so once instead.
-		if info, err := os.Stat(p); err == nil {
-			twice := ""
-			for _, q := range seen {
-				if os.SameFile(info, q.info) {
-					twice = q.path
-				}
-			}
-			if twice != "" {
-				l.fileErr(p, input.Errorf(input.ErrBadValue, "the same file as %s, given twice; name each campus file once", twice))
-				continue
-			}
-			seen = append(seen, struct {
-				path string
-				info os.FileInfo
-			}{p, info})
-		}
-		data, err := input.ReadFile(p, max)
-		if err != nil {
-			l.fileErr(p, fmt.Errorf("read: %w", input.Cause(err)))
-			continue
-		}
-		l.parseFile(p, data)
+		r.ReadFile(p, maxBytes)
 	}
-	return l.finishContext()
+	return r.Campus()
 }
 
 // LoadFS is Load reading the named files from fsys.
@@ -169,24 +140,97 @@ func LoadFS(fsys fs.FS, names []string) (*Campus, error) {
 
 // LoadFSContext is LoadContext reading the named files from fsys.
 func LoadFSContext(ctx context.Context, fsys fs.FS, names []string) (*Campus, error) {
-	l := newLoader()
-	l.ctx = ctx
+	r := NewReader(ctx)
 	for _, n := range names {
 		if err := ctx.Err(); err != nil {
 			return nil, err
 		}
 		data, err := input.ReadFS(fsys, n, input.Cap(0, input.DefaultDataMiB))
 		if err != nil {
-			l.fileErr(n, fmt.Errorf("read: %w", input.Cause(err)))
+			r.l.fileErr(n, fmt.Errorf("read: %w", input.Cause(err)))
 			continue
 		}
-		l.parseFile(n, data)
+		r.l.parseFile(n, data)
 	}
-	return l.finishContext()
+	return r.Campus()
 }
 
+// Reader reads one campus from any number of sources: GeoJSON files (ReadFile, Parse) and
+// tables of GeoPackages and databases (Row, from packages geo/gpkg and geo/postgis). Every
+// feature, whatever its source, goes through the same checks; ids are unique across all
+// sources and an entrance may name a building of another. Campus returns the campus or
+// every problem found. A Reader is not safe for concurrent use.
+type Reader struct {
+	l    *loader
+	seen []seenFile
+}
+
+type seenFile struct {
+	path string
+	info os.FileInfo
+}
+
+// NewReader returns a Reader that stops reading when ctx is done: between files, tables and
+// every featureCheckEvery features; Campus then returns ctx's error.
+func NewReader(ctx context.Context) *Reader {
+	l := newLoader()
+	l.ctx = ctx
+	return &Reader{l: l}
+}
+
+// Err is the error of the Reader's context, for readers of other sources to stop on.
+func (r *Reader) Err() error { return r.l.ctx.Err() }
+
+// ReadFile reads the GeoJSON file at path, a regular file of at most maxBytes bytes (0:
+// input.DefaultDataMiB MiB).
+func (r *Reader) ReadFile(path string, maxBytes int64) {
+	if !r.Open(path) {
+		return
+	}
+	data, err := input.ReadFile(path, input.Cap(maxBytes, input.DefaultDataMiB))
+	if err != nil {
+		r.l.fileErr(path, fmt.Errorf("read: %w", input.Cause(err)))
+		return
+	}
+	r.l.parseFile(path, data)
+}
+
+// Parse reads one GeoJSON FeatureCollection from data; name is used in messages.
+func (r *Reader) Parse(name string, data []byte) { r.l.parseFile(name, data) }
+
+// Open notes path as a file of the campus. It returns false, having reported it, when the
+// same file was named before (by the same or another path), which would make every one of
+// its ids a duplicate.
+func (r *Reader) Open(path string) bool {
+	info, err := os.Stat(path)
+	if err != nil {
+		return true // the reading reports it
+	}
+	for _, q := range r.seen {
+		if os.SameFile(info, q.info) {
+			r.l.fileErr(path, input.Errorf(input.ErrBadValue, "the same file as %s, given twice; name each campus file once", q.path))
+			return false
+		}
+	}
+	r.seen = append(r.seen, seenFile{path, info})
+	return true
+}
+
+// AddFile lists path among the campus's Files (the inputs outputs must never overwrite),
+// for a reader of a file that is not GeoJSON; a GeoJSON file read by ReadFile or Parse is
+// listed already.
+func (r *Reader) AddFile(path string) { r.l.c.Files = append(r.l.c.Files, path) }
+
+// Problem reports a problem of a source as a whole (a file, a table): a reader of another
+// source calls it for what is not one feature's.
+func (r *Reader) Problem(p *input.Problem) { r.l.errs.Add(p) }
+
+// Campus checks the campus as a whole and returns it, or every problem found in any source
+// as an *input.Problems, or the context's error.
+func (r *Reader) Campus() (*Campus, error) { return r.l.finishContext() }
+
 type loader struct {
-	ctx  context.Context // LoadContext's; parseFile stops reading features when it is done
+	ctx  context.Context // the Reader's; parseFile stops reading features when it is done
 	c    Campus
 	errs input.Problems
 	ids  map[string]idUse
@@ -257,12 +301,12 @@ func (l *loader) checkEntrances() {
 		use, ok := l.ids[e.Building]
 		switch {
 		case !ok:
-			l.errs.Add(&input.Problem{File: e.File, Feature: &input.Feature{Index: e.Index, ID: e.ID}, Key: PropBuilding,
+			l.errs.Add(&input.Problem{File: e.File, Feature: e.Feature(e.ID), Key: PropBuilding,
 				Err: problemf(ErrUnknownReference, "want the id of a building, got %q, which no feature has", e.Building)})
 		case use.kind != KindBuilding:
-			l.errs.Add(&input.Problem{File: e.File, Feature: &input.Feature{Index: e.Index, ID: e.ID}, Key: PropBuilding,
-				Err: problemf(ErrUnknownReference, "want the id of a building, got %q, which is a %s (%s feature #%d)",
-					e.Building, use.kind, use.File, use.Index)})
+			l.errs.Add(&input.Problem{File: e.File, Feature: e.Feature(e.ID), Key: PropBuilding,
+				Err: problemf(ErrUnknownReference, "want the id of a building, got %q, which is a %s (%s)",
+					e.Building, use.kind, use.Source)})
 		}
 	}
 	for i, id := range EntranceIDs(l.c.Entrances) {
@@ -271,9 +315,9 @@ func (l *loader) checkEntrances() {
 			continue
 		}
 		if use, ok := l.ids[id]; ok {
-			l.errs.Add(&input.Problem{File: e.File, Feature: &input.Feature{Index: e.Index}, Key: PropID,
-				Err: problemf(ErrDuplicateID, "this entrance has no id and its generated id %q is used by %s feature #%d; give the entrance an id",
-					id, use.File, use.Index)})
+			l.errs.Add(&input.Problem{File: e.File, Feature: e.Feature(""), Key: PropID,
+				Err: problemf(ErrDuplicateID, "this entrance has no id and its generated id %q is used by %s; give the entrance an id",
+					id, use.Source)})
 		}
 	}
 }
@@ -289,9 +333,9 @@ func (l *loader) checkMC() {
 			continue
 		}
 		f := l.c.Buildings[first]
-		l.errs.Add(&input.Problem{File: b.File, Feature: &input.Feature{Index: b.Index, ID: b.ID}, Key: PropRole,
-			Err: problemf(ErrBadValue, "want at most one %q building in the campus, got a second: %q (%s feature #%d) is already %q",
-				RoleMC, f.ID, f.File, f.Index, RoleMC)})
+		l.errs.Add(&input.Problem{File: b.File, Feature: b.Feature(b.ID), Key: PropRole,
+			Err: problemf(ErrBadValue, "want at most one %q building in the campus, got a second: %q (%s) is already %q",
+				RoleMC, f.ID, f.Source, RoleMC)})
 	}
 }
 
@@ -431,7 +475,7 @@ type feature struct {
 }
 
 func (f *feature) add(prop string, err error) {
-	f.l.errs.Add(input.Place(input.Problem{File: f.src.File, Feature: &input.Feature{Index: f.src.Index, ID: f.id}, Key: prop}, err))
+	f.l.errs.Add(input.Place(input.Problem{File: f.src.File, Feature: f.src.Feature(f.id), Key: prop}, err))
 }
 
 func (l *loader) parseFeature(src Source, raw json.RawMessage, dups []input.Duplicate) {
@@ -457,16 +501,30 @@ func (l *loader) parseFeature(src Source, raw json.RawMessage, dups []input.Dupl
 		return
 	}
 
-	idOK := f.readID(obj["id"])
 	geom, gerr := parseGeometry(obj["geometry"])
+	f.check(obj["id"], geom, gerr, "")
+}
 
+// check is the one path every feature takes, whatever its source: its id (the "id" property,
+// else member, the GeoJSON Feature's own id), its kind (the "kind" property, else tableKind,
+// the kind its table's name gives, else its geometry's type), then its geometry (geom as
+// decoded, or gerr) and properties by kind, adding the feature to the campus.
+func (f *feature) check(member any, geom orb.Geometry, gerr error, tableKind string) {
+	l := f.l
+	idOK := f.readID(member)
 	kind, hasKind := f.str(PropKind)
-	if hasKind {
-		if !contains(kinds, kind) {
-			f.add(PropKind, badEnum(kinds, kind))
-			return
-		}
-	} else {
+	switch {
+	case hasKind && !contains(kinds, kind):
+		f.add(PropKind, badEnum(kinds, kind))
+		return
+	case hasKind && tableKind != "" && kind != tableKind:
+		f.add(PropKind, problemf(ErrBadValue, "want %q in table %s, which holds %ss (or no kind), got %q",
+			tableKind, input.TableName(f.src.Table), tableKind, kind))
+		return
+	case hasKind:
+	case tableKind != "":
+		kind = tableKind
+	default:
 		switch geom.(type) {
 		case orb.Polygon, orb.MultiPolygon:
 			kind = KindBuilding
@@ -492,9 +550,9 @@ func (l *loader) parseFeature(src Source, raw json.RawMessage, dups []input.Dupl
 		} else if kind == KindPathway && strings.Contains(f.id, "/") {
 			f.add(PropID, problemf(ErrBadValue, `want a pathway id without "/" (span ids use it), got %q`, f.id))
 		} else if use, dup := l.ids[f.id]; dup {
-			f.add(PropID, problemf(ErrDuplicateID, "duplicate id %q: first used by %s feature #%d", f.id, use.File, use.Index))
+			f.add(PropID, problemf(ErrDuplicateID, "duplicate id %q: first used by %s", f.id, use.Source))
 		} else {
-			l.ids[f.id] = idUse{Source: src, kind: kind}
+			l.ids[f.id] = idUse{Source: f.src, kind: kind}
 		}
 	}
 
@@ -841,6 +899,8 @@ func describe(v any) string {
 		return "an array"
 	case map[string]any:
 		return "an object"
+	case Value:
+		return "a value of type " + t.Type
 	}
 	return fmt.Sprintf("%T", v)
 }
@@ -965,7 +1025,7 @@ func checkRange(p orb.Point) error {
 	case math.Abs(y) > 90:
 		hint := ""
 		if math.Abs(x) <= 90 {
-			hint = " (are longitude and latitude swapped? GeoJSON puts longitude first)"
+			hint = " (are longitude and latitude swapped? GeoJSON and GeoPackage put longitude first)"
 		}
 		return problemf(ErrBadGeometry, "latitude %s outside [-90, 90]%s", fmtCoord(y), hint)
 	}
@@ -999,14 +1059,19 @@ func positions(v any, what string) ([]orb.Point, error) {
 	for _, e := range arr {
 		p, err := position(e)
 		if err != nil {
-			if p, ok := err.(*problem); ok && what != "" {
-				return nil, &problem{kind: p.kind, msg: what + p.msg}
-			}
-			return nil, err
+			return nil, prefixed(what, err)
 		}
 		pts = append(pts, p)
 	}
 	return pts, nil
+}
+
+// prefixed puts what ("ring 2: ") before the message of a geometry problem.
+func prefixed(what string, err error) error {
+	if p, ok := err.(*problem); ok && what != "" {
+		return &problem{kind: p.kind, msg: what + p.msg}
+	}
+	return err
 }
 
 // line reads a LineString's coordinates, dropping repeated consecutive positions; what
@@ -1016,6 +1081,12 @@ func line(v any, what string) (orb.LineString, error) {
 	if err != nil {
 		return nil, err
 	}
+	return distinctLine(pts, what)
+}
+
+// distinctLine is the rule for a line of every source: repeated consecutive positions are
+// dropped, and at least two distinct ones must remain.
+func distinctLine(pts []orb.Point, what string) (orb.LineString, error) {
 	ls := make(orb.LineString, 0, len(pts))
 	for _, p := range pts {
 		if len(ls) == 0 || ls[len(ls)-1] != p {
@@ -1026,6 +1097,19 @@ func line(v any, what string) (orb.LineString, error) {
 		return nil, problemf(ErrBadGeometry, "%swant a line of at least two distinct positions, got %d position(s), %d distinct", what, len(pts), len(ls))
 	}
 	return ls, nil
+}
+
+// closedRing is the rule for a polygon's ring of every source: at least four positions, the
+// last the first.
+func closedRing(pts []orb.Point, what string) (orb.Ring, error) {
+	if len(pts) < 4 {
+		return nil, problemf(ErrBadGeometry, "%swant a closed ring of at least 4 positions, got %d", what, len(pts))
+	}
+	if pts[0] != pts[len(pts)-1] {
+		return nil, problemf(ErrBadGeometry, "%snot closed: first position [%s, %s], last [%s, %s]", what,
+			fmtCoord(pts[0][0]), fmtCoord(pts[0][1]), fmtCoord(pts[len(pts)-1][0]), fmtCoord(pts[len(pts)-1][1]))
+	}
+	return orb.Ring(pts), nil
 }
 
 func multiLine(v any) (orb.MultiLineString, error) {
@@ -1056,14 +1140,11 @@ func polygon(v any, what string) (orb.Polygon, error) {
 		if err != nil {
 			return nil, err
 		}
-		if len(pts) < 4 {
-			return nil, problemf(ErrBadGeometry, "%swant a closed ring of at least 4 positions, got %d", w, len(pts))
+		r, err := closedRing(pts, w)
+		if err != nil {
+			return nil, err
 		}
-		if pts[0] != pts[len(pts)-1] {
-			return nil, problemf(ErrBadGeometry, "%snot closed: first position [%s, %s], last [%s, %s]", w,
-				fmtCoord(pts[0][0]), fmtCoord(pts[0][1]), fmtCoord(pts[len(pts)-1][0]), fmtCoord(pts[len(pts)-1][1]))
-		}
-		poly = append(poly, orb.Ring(pts))
+		poly = append(poly, r)
 	}
 	return poly, nil
 }

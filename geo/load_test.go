@@ -196,7 +196,7 @@ func TestParseValid(t *testing.T) {
 		t.Errorf("building 2 defaults: got %+v", b2)
 	}
 	p := c.Pathways[0]
-	wantP := Pathway{Source: Source{"campus.geojson", 2}, ID: "7", Type: TypeTunnel, Status: StatusProposed,
+	wantP := Pathway{Source: Source{File: "campus.geojson", Index: 2}, ID: "7", Type: TypeTunnel, Status: StatusProposed,
 		SpareDucts: 3, DuctMM: 50, EMI: EMIHigh, Surface: SurfaceAsphalt, Method: MethodTrench, Group: "north bank"}
 	lines := p.Lines
 	p.Lines = nil

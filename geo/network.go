@@ -73,7 +73,7 @@ type Access struct {
 // Warning is a non-fatal finding, such as two pathways that cross with no junction.
 type Warning struct {
 	File    string
-	Feature string // "#index (id)" of the feature concerned
+	Feature string // "#index (id)" of the feature concerned, or "table name fid n (id)" (Source.Short)
 	Message string
 }
 

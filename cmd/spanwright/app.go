@@ -121,8 +121,16 @@ var unitsFlag = &cli.StringFlag{
 var maxInputFlag = &cli.Int64Flag{
 	Name:  input.LimitFlag,
 	Usage: "refuse input files larger than this, in MiB",
-	DefaultText: fmt.Sprintf("%d for campus GeoJSON, %d for plan, sweep, catalog, rule and price files",
+	DefaultText: fmt.Sprintf("%d for campus GeoJSON and GeoPackage, %d for plan, sweep, catalog, rule and price files",
 		input.DefaultDataMiB, input.DefaultTextMiB),
+}
+
+// campusDBFlag reads the campus from a PostgreSQL/PostGIS database; check, plan and sweep
+// take it.
+var campusDBFlag = &cli.StringFlag{
+	Name: "campus-db",
+	Usage: "read the campus from the tables of this PostgreSQL/PostGIS database (a libpq connection string " +
+		"or postgresql:// URI; put the password in PGPASSWORD or ~/.pgpass), instead of the plan's campus_database",
 }
 
 // maxMiB is the largest value --max-input-mb takes: a tebibyte.

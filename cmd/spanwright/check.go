@@ -20,26 +20,28 @@ func checkCommand() *cli.Command {
 	return &cli.Command{
 		Name:      "check",
 		Usage:     "validate a plan or campus files and summarise the pathway network",
-		ArgsUsage: "PLAN.yaml | CAMPUS.geojson...",
-		Flags:     []cli.Flag{unitsFlag, maxInputFlag},
+		ArgsUsage: "PLAN.yaml | CAMPUS.geojson|CAMPUS.gpkg...",
+		Flags:     []cli.Flag{unitsFlag, maxInputFlag, campusDBFlag},
 		Action: func(c *cli.Context) error {
 			opt, err := writeOptions(c)
 			if err != nil {
 				return err
 			}
-			if c.NArg() == 0 {
-				return usageError{fmt.Errorf("check: name a plan file or one or more campus GeoJSON files")}
+			if c.NArg() == 0 && c.String(campusDBFlag.Name) == "" {
+				return usageError{fmt.Errorf("check: name a plan file, one or more campus files (GeoJSON or GeoPackage) or --%s", campusDBFlag.Name)}
 			}
 			maxBytes, err := maxInputBytes(c)
 			if err != nil {
 				return err
 			}
-			return runCheck(c.Context, c.Args().Slice(), maxBytes, opt, c.App.Writer)
+			return runCheck(c.Context, c.Args().Slice(), c.String(campusDBFlag.Name), maxBytes, opt, c.App.Writer)
 		},
 	}
 }
 
-func runCheck(ctx context.Context, args []string, maxBytes int64, opt output.WriteOptions, w io.Writer) (err error) {
+// runCheck checks the plan or campus files of args, with the tables of the database db
+// when not "" (instead of the plan's).
+func runCheck(ctx context.Context, args []string, db string, maxBytes int64, opt output.WriteOptions, w io.Writer) (err error) {
 	defer func() {
 		if err != nil && ctx.Err() != nil && errors.Is(err, ctx.Err()) {
 			err = fmt.Errorf("stopped: %w", err)
@@ -49,14 +51,14 @@ func runCheck(ctx context.Context, args []string, maxBytes int64, opt output.Wri
 	var p *plan.Plan
 	hub := ""
 	if len(args) == 1 && (strings.HasSuffix(args[0], ".yaml") || strings.HasSuffix(args[0], ".yml")) {
-		if p, err = plan.LoadPlanLimit(args[0], maxBytes); err != nil {
+		if p, err = plan.LoadPlanOptions(args[0], plan.LoadOptions{MaxInputBytes: maxBytes, CampusDatabase: db}); err != nil {
 			return err
 		}
 		st, err = site.Load(ctx, nil, campusPaths(p), siteOptions(p))
 		hub = p.Hub
 	} else {
 		st, err = site.Load(ctx, nil, args, site.Options{SnapM: plan.Default.Design.SnapM,
-			MaxLateralM: plan.Default.Design.MaxLateralM, MaxInputBytes: maxBytes})
+			MaxLateralM: plan.Default.Design.MaxLateralM, MaxInputBytes: maxBytes, Database: db})
 	}
 	if err != nil {
 		return err
@@ -95,5 +97,6 @@ func campusPaths(p *plan.Plan) []string {
 }
 
 func siteOptions(p *plan.Plan) site.Options {
-	return site.Options{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM, MaxInputBytes: p.MaxInputBytes}
+	return site.Options{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM, MaxInputBytes: p.MaxInputBytes,
+		Database: p.CampusDatabase}
 }

@@ -31,6 +31,7 @@ func planCommand() *cli.Command {
 			&cli.PathFlag{Name: "rules", Usage: "media rule YAML, instead of the plan's rules: or the embedded one", TakesFile: true},
 			&cli.PathFlag{Name: "prices", Usage: "price book YAML, instead of the plan's prices: or the embedded demo book", TakesFile: true},
 			maxInputFlag,
+			campusDBFlag,
 		},
 		Action: func(c *cli.Context) error {
 			opt, err := writeOptions(c)
@@ -44,7 +45,7 @@ func planCommand() *cli.Command {
 			if err != nil {
 				return err
 			}
-			p, err := plan.LoadPlanLimit(c.Args().First(), maxBytes)
+			p, err := plan.LoadPlanOptions(c.Args().First(), plan.LoadOptions{MaxInputBytes: maxBytes, CampusDatabase: c.String(campusDBFlag.Name)})
 			if err != nil {
 				return err
 			}

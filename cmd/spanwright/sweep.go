@@ -48,6 +48,7 @@ func sweepCommand() *cli.Command {
 			&cli.BoolFlag{Name: "full", Usage: "also write bom.xlsx and report.html in every scenario folder (slower)"},
 			unitsFlag,
 			maxInputFlag,
+			campusDBFlag,
 		},
 		Action: func(c *cli.Context) error {
 			opt, err := sweepOpts(c)
@@ -73,6 +74,8 @@ type sweepOptions struct {
 	write  output.WriteOptions
 	// maxBytes caps every input file, in bytes; 0 for the defaults
 	maxBytes int64
+	// campusDB is the campus database of every scenario, instead of the plan's; "" for the plan's
+	campusDB string
 }
 
 func sweepOpts(c *cli.Context) (sweepOptions, error) {
@@ -87,7 +90,7 @@ func sweepOpts(c *cli.Context) (sweepOptions, error) {
 		return sweepOptions{}, usageError{fmt.Errorf("--jobs: want at least 1, got %d", c.Int("jobs"))}
 	}
 	o := sweepOptions{file: c.Args().First(), out: c.Path("out"), jobs: c.Int("jobs"),
-		resume: c.Bool("resume"), quiet: c.Bool("quiet"), full: c.Bool("full"), write: w}
+		resume: c.Bool("resume"), quiet: c.Bool("quiet"), full: c.Bool("full"), write: w, campusDB: c.String(campusDBFlag.Name)}
 	o.write.SkipWorkbook = !o.full
 	if o.maxBytes, err = maxInputBytes(c); err != nil {
 		return sweepOptions{}, err
@@ -112,7 +115,7 @@ func runSweep(ctx context.Context, o sweepOptions, stdout, stderr io.Writer) err
 	}
 	prog := newProgress(stderr, o.quiet)
 	so := sweep.Options{Out: o.out, Jobs: o.jobs, Resume: o.resume, Shard: o.shard, Write: o.write, Progress: prog.update,
-		Compare: report.SweepFiles(report.SweepOptions{})}
+		Compare: report.SweepFiles(report.SweepOptions{}), CampusDatabase: o.campusDB}
 	if o.full {
 		so.Extra = report.Extra(report.Options{Units: o.write.Units})
 	}

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"slices"
+	"strconv"
 	"strings"
 )
 
@@ -28,16 +29,50 @@ func Errorf(kind error, format string, args ...any) error {
 	return &problem{kind, fmt.Sprintf(format, args...)}
 }
 
-// Feature names one feature of a GeoJSON FeatureCollection: its 0-based position in the
-// file's features and its id ("" when it has none).
+// Feature names one feature: of a GeoJSON FeatureCollection by its 0-based position in the
+// file's features, or of a table (a GeoPackage's or a database's) by the table and the row's
+// feature id, its primary key; and by its id ("" when it has none).
 type Feature struct {
 	Index int
 	ID    string
+	// Table is the feature's table, "" for a GeoJSON feature; FID is then its row's feature id.
+	Table string
+	FID   int64
+}
+
+// String names the feature as a problem does: `feature #3 "P-1"`, `feature #4 (no id)`,
+// `table pathways fid 12 (id "D-07")` or `table entrances fid 3 (no id)`.
+func (f Feature) String() string {
+	if f.Table != "" {
+		if f.ID == "" {
+			return fmt.Sprintf("table %s fid %d (no id)", TableName(f.Table), f.FID)
+		}
+		return fmt.Sprintf("table %s fid %d (id %q)", TableName(f.Table), f.FID, f.ID)
+	}
+	if f.ID == "" {
+		return fmt.Sprintf("feature #%d (no id)", f.Index)
+	}
+	return fmt.Sprintf("feature #%d %q", f.Index, f.ID)
+}
+
+// TableName prints a table's name for a message: as it is when it is a plain SQL identifier
+// (letters, digits, underscores, not starting with a digit), quoted otherwise.
+func TableName(name string) string {
+	for i, r := range name {
+		if !(r == '_' || r >= 'a' && r <= 'z' || r >= 'A' && r <= 'Z' || i > 0 && r >= '0' && r <= '9') {
+			return strconv.Quote(name)
+		}
+	}
+	if name == "" {
+		return `""`
+	}
+	return name
 }
 
 // Problem is one problem with an input file, at a place in it. It prints
 //
 //	file:line:col: feature #3 "P-1": property "duct_mm": want …, got …
+//	file: table pathways fid 12 (id "D-07"): property "duct_mm": want …, got …
 //	file:line:col: medium "om4": range_m: want …, got …
 //
 // leaving out what is unknown: the line and column (1-based, 0 when unknown), the feature
@@ -79,11 +114,7 @@ func (p *Problem) Error() string {
 	}
 	if f := p.Feature; f != nil {
 		sep()
-		if f.ID != "" {
-			fmt.Fprintf(&b, "feature #%d %q", f.Index, f.ID)
-		} else {
-			fmt.Fprintf(&b, "feature #%d (no id)", f.Index)
-		}
+		b.WriteString(f.String())
 	}
 	if p.Item != "" {
 		sep()

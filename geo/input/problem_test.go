@@ -25,6 +25,11 @@ func TestProblemText(t *testing.T) {
 			`c.geojson: feature #2 "P-1": property "duct_mm": want a thing`},
 		{"feature without id, geometry", Problem{File: "c.geojson", Feature: &Feature{Index: 0}, Key: "geometry", Err: want},
 			`c.geojson: feature #0 (no id): geometry: want a thing`},
+		{"table row with id, property", Problem{File: "c.gpkg", Feature: &Feature{Table: "pathways", FID: 12, ID: "D-07"}, Key: "duct_mm", Err: want},
+			`c.gpkg: table pathways fid 12 (id "D-07"): property "duct_mm": want a thing`},
+		{"table row without id, odd table name", Problem{File: "c.gpkg", Feature: &Feature{Table: "door ways", FID: 3}, Key: "geometry", Err: want},
+			`c.gpkg: table "door ways" fid 3 (no id): geometry: want a thing`},
+		{"whole table", Problem{File: "c.gpkg", Item: "table " + TableName("local"), Err: want}, `c.gpkg: table local: want a thing`},
 		{"value", Problem{File: "a.yaml", Line: 2, Col: 9, Key: "growth", Value: "NaN", Err: want}, "a.yaml:2:9: growth: want a thing, got NaN"},
 		{"nowhere", Problem{Value: "-1", Err: want}, "want a thing, got -1"},
 	}

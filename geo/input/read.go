@@ -79,6 +79,17 @@ func ReadFile(path string, maxBytes int64) ([]byte, error) {
 	return readCapped(path, f, st.Size(), maxBytes)
 }
 
+// CheckFile refuses, as ReadFile does but without reading it, a path that is not a regular
+// file or is larger than maxBytes: for a file that a library opens itself (a GeoPackage,
+// through SQLite). Errors are as ReadFile's.
+func CheckFile(path string, maxBytes int64) error {
+	st, err := os.Stat(path)
+	if err != nil {
+		return err
+	}
+	return check(path, st, maxBytes)
+}
+
 // Cause is err without the *fs.PathError around it, whose operation and path a message that
 // names the file already would repeat: "not a regular file but a folder; …", "no such file
 // or directory".

@@ -27,18 +27,22 @@ const (
 
 // Plan is a parsed plan file. Paths in it are resolved against the plan file's folder.
 type Plan struct {
-	File     string     `yaml:"-"` // the plan file's path, for messages
-	Dir      string     `yaml:"-"` // the folder paths are relative to
-	Name     string     `yaml:"name"`
-	Campus   FileList   `yaml:"campus"`
-	Hub      string     `yaml:"hub"`
-	Budget   Money      `yaml:"budget"`
-	Defaults Defaults   `yaml:"defaults"`
-	Links    []LinkSpec `yaml:"links"`
-	Design   Design     `yaml:"design"`
-	Catalog  string     `yaml:"catalog"` // optional media catalog file
-	Rules    string     `yaml:"rules"`   // optional rule file
-	Prices   string     `yaml:"prices"`  // optional price book file
+	File   string   `yaml:"-"` // the plan file's path, for messages
+	Dir    string   `yaml:"-"` // the folder paths are relative to
+	Name   string   `yaml:"name"`
+	Campus FileList `yaml:"campus"`
+	// CampusDatabase is the connection string (libpq key=value or postgresql:// URI) of a
+	// PostgreSQL/PostGIS database whose tables hold the campus, read with the files of
+	// Campus as one campus; "" for none. Not resolved against the plan's folder.
+	CampusDatabase string     `yaml:"campus_database"`
+	Hub            string     `yaml:"hub"`
+	Budget         Money      `yaml:"budget"`
+	Defaults       Defaults   `yaml:"defaults"`
+	Links          []LinkSpec `yaml:"links"`
+	Design         Design     `yaml:"design"`
+	Catalog        string     `yaml:"catalog"` // optional media catalog file
+	Rules          string     `yaml:"rules"`   // optional rule file
+	Prices         string     `yaml:"prices"`  // optional price book file
 
 	// MaxInputBytes caps each file the plan reads (campus, catalog, rules, prices), in
 	// bytes; 0 for the defaults (input.DefaultDataMiB MiB for GeoJSON, input.DefaultTextMiB
@@ -241,15 +245,29 @@ func LoadPlan(path string) (*Plan, error) { return LoadPlanLimit(path, 0) }
 // LoadPlanLimit is LoadPlan with a cap of maxBytes bytes on the plan file, kept in
 // Plan.MaxInputBytes for the files the plan names (0: the defaults).
 func LoadPlanLimit(path string, maxBytes int64) (*Plan, error) {
-	data, err := input.ReadFile(path, input.Cap(maxBytes, input.DefaultTextMiB))
+	return LoadPlanOptions(path, LoadOptions{MaxInputBytes: maxBytes})
+}
+
+// LoadOptions are what the command line adds to a plan file.
+type LoadOptions struct {
+	// MaxInputBytes caps the plan file and is kept in Plan.MaxInputBytes (0: the defaults).
+	MaxInputBytes int64
+	// CampusDatabase, when not "", replaces the plan's campus_database before the plan is
+	// checked, so a plan that names no campus of its own is complete with it.
+	CampusDatabase string
+}
+
+// LoadPlanOptions is LoadPlan with the command line's options.
+func LoadPlanOptions(path string, o LoadOptions) (*Plan, error) {
+	data, err := input.ReadFile(path, input.Cap(o.MaxInputBytes, input.DefaultTextMiB))
 	if err != nil {
 		return nil, &input.Problem{File: path, Err: fmt.Errorf("read: %w", input.Cause(err)), Class: ErrPlan}
 	}
-	p, err := ParsePlan(path, data)
+	p, err := ParsePlanOptions(path, data, o)
 	if err != nil {
 		return nil, err
 	}
-	p.MaxInputBytes = maxBytes
+	p.MaxInputBytes = o.MaxInputBytes
 	return p, nil
 }
 
@@ -257,6 +275,12 @@ func LoadPlanLimit(path string, maxBytes int64) (*Plan, error) {
 // resolve the relative paths in it. Every problem of the file comes back at once, as an
 // *input.Problems in line order.
 func ParsePlan(name string, data []byte) (*Plan, error) {
+	return ParsePlanOptions(name, data, LoadOptions{})
+}
+
+// ParsePlanOptions is ParsePlan with the command line's campus database (o.CampusDatabase;
+// o.MaxInputBytes is not used).
+func ParsePlanOptions(name string, data []byte, o LoadOptions) (*Plan, error) {
 	p := Default
 	p.File = name
 	p.Dir = filepath.Dir(name)
@@ -266,6 +290,9 @@ func ParsePlan(name string, data []byte) (*Plan, error) {
 	if root := d.Parse(data, &p); root != nil && input.Resolve(root).Kind == yaml.MappingNode {
 		for i := range p.Links {
 			p.Links[i].Line = p.at[fmt.Sprintf("links[%d]", i)].Line
+		}
+		if o.CampusDatabase != "" {
+			p.CampusDatabase = o.CampusDatabase
 		}
 		p.validate(&errs)
 	}
@@ -291,11 +318,11 @@ func (p *Plan) validate(errs *input.Problems) {
 		}
 		return false
 	}
-	if len(p.Campus) == 0 && !reported("campus") {
+	if len(p.Campus) == 0 && p.CampusDatabase == "" && !reported("campus", "campus_database") {
 		if _, given := p.at["campus"]; given {
-			bad("campus", input.ErrBadValue, "want at least one campus GeoJSON file, got none")
+			bad("campus", input.ErrBadValue, "want at least one campus file (GeoJSON, or GeoPackage .gpkg), got none")
 		} else {
-			bad("campus", input.ErrMissingKey, "missing; name at least one campus GeoJSON file")
+			bad("campus", input.ErrMissingKey, "missing; name at least one campus file (GeoJSON, or GeoPackage .gpkg), or a campus_database")
 		}
 	}
 	d := p.Defaults

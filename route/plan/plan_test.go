@@ -54,10 +54,10 @@ func TestParsePlanErrors(t *testing.T) {
 	}{
 		{"not yaml", "campus: [", []string{"plan.yaml:1: not YAML: did not find expected node content"}},
 		{"not a mapping", "- a\n- b\n", []string{"plan.yaml:1:1: want a mapping, got a list"}},
-		{"unknown key", "campus: [c.geojson]\nbudgit: 3\n", []string{"plan.yaml:2:1: budgit: unknown key; want one of budget, campus, catalog, defaults, design, hub, links, name, prices, rules"}},
+		{"unknown key", "campus: [c.geojson]\nbudgit: 3\n", []string{"plan.yaml:2:1: budgit: unknown key; want one of budget, campus, campus_database, catalog, defaults, design, hub, links, name, prices, rules"}},
 		{"unknown nested key", "campus: [c.geojson]\ndesign: {snap: 2}\n", []string{"plan.yaml:2:10: design.snap: unknown key; want one of allow_new_trench, "}},
 		{"unknown link key", "campus: [c.geojson]\nlinks:\n  - {to: A, speed: 10G}\n", []string{"plan.yaml:3:13: links[0].speed: unknown key; want one of from, future_rate, growth, rate, redundancy, skip, strands, to"}},
-		{"no campus", "name: x\n", []string{"plan.yaml: campus: missing; name at least one campus GeoJSON file"}},
+		{"no campus", "name: x\n", []string{"plan.yaml: campus: missing; name at least one campus file (GeoJSON, or GeoPackage .gpkg), or a campus_database"}},
 		{"bad budget", "campus: [c]\nbudget: 12.345\n", []string{`plan.yaml:2:9: budget: want an amount such as 1250000 or 99.95, got "12.345"`}},
 		{"bad redundancy", "campus: [c]\ndefaults: {redundancy: double}\n", []string{`plan.yaml:2:24: defaults.redundancy: want "none" or "diverse", got "double"`}},
 		{"link without to", "campus: [c]\nlinks:\n  - {from: A}\n", []string{"plan.yaml:3:5: links[0].to: missing; a link names the building it serves"}},

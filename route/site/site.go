@@ -9,6 +9,8 @@ import (
 	"gonum.org/v1/gonum/graph/path"
 
 	"spanwright/geo"
+	"spanwright/geo/gpkg"
+	"spanwright/geo/postgis"
 	"spanwright/media/install"
 	"spanwright/route/optimize"
 )
@@ -50,18 +52,42 @@ type Options struct {
 	MaxLateralM float64
 	// MaxInputBytes caps each campus file, in bytes; 0 for input.DefaultDataMiB MiB.
 	MaxInputBytes int64
+	// Database is the connection string of a PostgreSQL/PostGIS database whose tables hold
+	// (more of) the campus (package geo/postgis); "" for none.
+	Database string
 }
 
-// Load reads the campus files and builds the network. fsys, when not nil, is read
-// instead of the disk (the embedded demo). When ctx is done, reading and building stop and
-// LoadSite returns ctx's error.
+// read reads the campus from the files and the database: every feature through one
+// geo.Reader, so every source's features take the same checks.
+func read(ctx context.Context, files []string, opt Options) (*geo.Campus, error) {
+	r := geo.NewReader(ctx)
+	for _, f := range files {
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
+		if gpkg.Is(f) {
+			gpkg.Read(ctx, r, f, opt.MaxInputBytes)
+		} else {
+			r.ReadFile(f, opt.MaxInputBytes)
+		}
+	}
+	if opt.Database != "" && ctx.Err() == nil {
+		postgis.Read(ctx, r, opt.Database)
+	}
+	return r.Campus()
+}
+
+// Load reads the campus and builds the network: the files (GeoJSON, or GeoPackage by the
+// extension .gpkg) and the tables of opt.Database, as one campus. fsys, when not nil, is read
+// instead of the disk (the embedded demo; GeoJSON only). When ctx is done, reading and
+// building stop and Load returns ctx's error.
 func Load(ctx context.Context, fsys fs.FS, files []string, opt Options) (*Site, error) {
 	var c *geo.Campus
 	var err error
 	if fsys != nil {
 		c, err = geo.LoadFSContext(ctx, fsys, files)
 	} else {
-		c, err = geo.LoadLimitContext(ctx, files, opt.MaxInputBytes)
+		c, err = read(ctx, files, opt)
 	}
 	if err != nil {
 		return nil, err

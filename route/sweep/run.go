@@ -82,6 +82,10 @@ type Options struct {
 	// Compare, when not nil, renders more comparison files (a report) for a whole sweep;
 	// they are written in one set with compare.csv and the others.
 	Compare CompareFunc
+	// CampusDatabase, when not "", is the campus database of every scenario instead of its
+	// plan's campus_database (the command line's --campus-db); scenarios' plan.yaml keep
+	// their own.
+	CampusDatabase string
 }
 
 // Progress is the state of a running sweep.
@@ -448,7 +452,7 @@ func (r *runner) scenario(ctx context.Context, sc Scenario) (outcome, error) {
 		out.files = []fileset.OutputFile{{Name: PlanFile, Data: planData}, {Name: ErrorFile, Data: []byte(escape.Visible(out.row.Error) + "\n")}}
 		return out, nil
 	}
-	p, err := plan.ParsePlan(planPath, planData)
+	p, err := plan.ParsePlanOptions(planPath, planData, plan.LoadOptions{CampusDatabase: r.opt.CampusDatabase})
 	if err != nil {
 		return fail(err)
 	}
@@ -457,7 +461,8 @@ func (r *runner) scenario(ctx context.Context, sc Scenario) (outcome, error) {
 	if err != nil {
 		return fail(err)
 	}
-	if r.opt.Resume {
+	// A database has no file to hash: a scenario that reads one is planned again.
+	if r.opt.Resume && p.CampusDatabase == "" {
 		if s, ok := r.resumable(dir, inputs); ok {
 			out.row.fill(s)
 			r.mu.Lock()
@@ -734,7 +739,8 @@ func (r *runner) site(p *plan.Plan) (*site.Site, error) {
 	for i, f := range p.Campus {
 		files[i] = p.Path(f)
 	}
-	opt := site.Options{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM, MaxInputBytes: p.MaxInputBytes}
+	opt := site.Options{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM, MaxInputBytes: p.MaxInputBytes,
+		Database: p.CampusDatabase}
 	var key strings.Builder
 	for _, f := range files {
 		abs, err := filepath.Abs(f)
@@ -744,6 +750,7 @@ func (r *runner) site(p *plan.Plan) (*site.Site, error) {
 		key.WriteString(abs + "\x00")
 	}
 	key.WriteString(strconv.FormatFloat(opt.SnapM, 'g', -1, 64) + "\x00" + strconv.FormatFloat(opt.MaxLateralM, 'g', -1, 64))
+	key.WriteString("\x00" + opt.Database)
 	// The site is shared by every scenario that reads it and kept with its error, so no one
 	// scenario's stop may end its building: it is built to the end.
 	return r.sites.get(key.String(), func() (*site.Site, error) { return site.Load(context.Background(), nil, files, opt) })
