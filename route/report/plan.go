@@ -219,7 +219,12 @@ type legendItem struct {
 }
 
 type legend struct {
-	Pathways   []legendItem
+	// Over are what the map draws over the routes: new construction, tunnels and pole
+	// lines carrying cable, cable counts; each drawn on a route of RouteStroke.
+	Over        []legendItem
+	RouteStroke string
+	Counts      bool
+	Pathways    []legendItem
 	Media      []legendItem
 	Structures []legendItem
 	Crossed    bool // a building some route passes through
@@ -721,7 +726,7 @@ func legendOf(r *route.Result, med map[string]mediumInfo, order []string, m mapV
 		lg.Structures = append(lg.Structures, legendItem{Shape: structureShape(t), Class: "st", Label: t})
 	}
 	if len(m.Turns) > 0 {
-		lg.Structures = append(lg.Structures, legendItem{Shape: "square", Class: "st turn", Label: "handhole to add where a route turns between pathways"})
+		lg.Structures = append(lg.Structures, legendItem{Shape: "square", Class: "st turn", Label: "handhole to add (a route turns between pathways, or new pathway joins)"})
 	}
 	if len(m.Entrances) > 0 {
 		lg.Structures = append(lg.Structures, legendItem{Shape: "dot", Class: "ent", Label: "building entrance"})
@@ -730,6 +735,25 @@ func legendOf(r *route.Result, med map[string]mediumInfo, order []string, m mapV
 		lg.Structures = append(lg.Structures, legendItem{Shape: "dot", Class: "ent used", Label: "entrance a leg uses"})
 	}
 	lg.Crossed = m.Crossed
+	over := map[string]bool{}
+	for _, w := range append(append([]svgPath(nil), m.Works...), m.Carriers...) {
+		over[w.Class] = true
+	}
+	for _, it := range []legendItem{
+		{Class: "nw-trench", Label: "new trench the plan builds (long dashes)"},
+		{Class: "nw-bore", Label: "new directional bore the plan builds (dots)"},
+		{Class: "on-tunnel", Label: "route in a utility tunnel (thin brown line)"},
+		{Class: "on-aerial", Label: "route on a pole line, aerial (dark dots)"},
+	} {
+		if over[it.Class] {
+			lg.Over = append(lg.Over, it)
+		}
+	}
+	lg.RouteStroke = "#9aa3ad"
+	if len(order) > 0 {
+		lg.RouteStroke = med[order[0]].Hex
+	}
+	lg.Counts = len(m.Counts) > 0
 	return lg
 }
 
