@@ -48,6 +48,9 @@ type Row struct {
 	// Note says what of the base plan the scenario left out, and why (output.Summary.Notes,
 	// joined by "; "), e.g. a link entry for the building the scenario makes the hub.
 	Note string `json:"note,omitempty"`
+	// Report is the name of the scenario's HTML report in its folder (report.html, written
+	// with Options.Extra), "" when it has none: the comparison links it.
+	Report string `json:"report,omitempty"`
 }
 
 func newRow(sc Scenario) Row {

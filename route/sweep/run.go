@@ -158,7 +158,7 @@ func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
 	h := rowsHeader{Format: RowsFormat, Sweep: sweepHash(f), Scenarios: len(f.Scenarios()), Keys: f.Keys(), Shard: opt.Shard.String()}
 	// Refuse before planning anything when the comparison would replace the sweep file or
 	// the base plan (the files the scenarios read are checked again when it is written).
-	names, err := renderRun(h, nil, opt.Shard, opt.Compare)
+	names, err := renderRun(h, nil, opt.Shard, opt.Compare, nil)
 	if err != nil {
 		return nil, err
 	}
@@ -178,7 +178,7 @@ func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
 	if err != nil {
 		return rep, err
 	}
-	files, err := renderRun(h, rows, opt.Shard, opt.Compare)
+	files, err := renderRun(h, rows, opt.Shard, opt.Compare, nil)
 	if err != nil {
 		return rep, err
 	}
@@ -195,7 +195,10 @@ func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
 }
 
 // renderRun renders the rows file and, for a whole sweep, the comparison and more's files.
-func renderRun(h rowsHeader, rows []Row, sh Shard, more CompareFunc) ([]fileset.OutputFile, error) {
+//
+// dirs, when not nil, holds each scenario's folder relative to the comparison's folder
+// (Judged.Dir), by index; nil when every folder is beside the comparison.
+func renderRun(h rowsHeader, rows []Row, sh Shard, more CompareFunc, dirs []string) ([]fileset.OutputFile, error) {
 	data, err := encodeRows(h, rows)
 	if err != nil {
 		return nil, err
@@ -214,6 +217,11 @@ func renderRun(h rowsHeader, rows []Row, sh Shard, more CompareFunc) ([]fileset.
 	c, err := judgeEncoded(data)
 	if err != nil {
 		return nil, err
+	}
+	for i := range c.Rows {
+		if i < len(dirs) && dirs[i] != "" {
+			c.Rows[i].Dir = dirs[i]
+		}
 	}
 	extra, err := more(c)
 	if err != nil {
@@ -460,6 +468,7 @@ func (r *runner) scenario(ctx context.Context, sc Scenario) (outcome, error) {
 	if r.opt.Resume {
 		if s, ok := r.resumable(dir, inputs); ok {
 			out.row.fill(s)
+			out.row.Report = htmlIn(dir)
 			r.mu.Lock()
 			r.skipped++
 			r.mu.Unlock()
@@ -507,6 +516,11 @@ func (r *runner) scenario(ctx context.Context, sc Scenario) (outcome, error) {
 		seen[o.Name] = true
 	}
 	out.row.fill(output.Summarize(res))
+	for _, o := range files {
+		if strings.HasSuffix(o.Name, ".html") && out.row.Report == "" {
+			out.row.Report = o.Name
+		}
+	}
 	out.files = files
 	return out, nil
 }
@@ -636,6 +650,20 @@ func (r *runner) resumable(dir string, inputs []byte) (output.Summary, bool) {
 		return s, false
 	}
 	return s, true
+}
+
+// htmlIn names the first HTML file (by name) in a scenario folder, "" when there is none.
+func htmlIn(dir string) string {
+	ents, err := os.ReadDir(dir)
+	if err != nil {
+		return ""
+	}
+	for _, e := range ents { // sorted by name
+		if e.Type().IsRegular() && strings.HasSuffix(e.Name(), ".html") {
+			return e.Name()
+		}
+	}
+	return ""
 }
 
 // publish writes a scenario folder whole: the files go into a temporary folder with
