@@ -295,8 +295,8 @@ type Summary struct {
 	Currency      string         `json:"currency,omitempty"`
 	// DemoPrices is DemoPricesWarning when the embedded demo price book priced the plan
 	// (the plan named no prices: file and no --prices was given); absent otherwise.
-	DemoPrices string `json:"demo_prices_warning,omitempty"`
-	CableM        float64        `json:"cable_m"` // cable bought, every cable of every feasible leg, waste included
+	DemoPrices string  `json:"demo_prices_warning,omitempty"`
+	CableM     float64 `json:"cable_m"` // cable bought, every cable of every feasible leg, waste included
 
 	// TotalCents is the bill of materials' grand total: every line, contingency, overhead
 	// and tax.

@@ -95,14 +95,14 @@ type mapView struct {
 	Carriers []svgPath
 	// Works are the new construction, drawn over the routes: opened proposed spans and the
 	// trench or bore for ducts added beside existing spans, by method.
-	Works  []svgPath
-	Counts []countLabel // the number of cables in each span that carries any
-	Entrances  []mark // every way into every building, at its junction
-	Crossed    bool   // some building is drawn as one a route passes through
-	Scale      scaleBar
-	NorthX     string
-	NorthY     string
-	Empty      bool // nothing to draw
+	Works     []svgPath
+	Counts    []countLabel // the number of cables in each span that carries any
+	Entrances []mark       // every way into every building, at its junction
+	Crossed   bool         // some building is drawn as one a route passes through
+	Scale     scaleBar
+	NorthX    string
+	NorthY    string
+	Empty     bool // nothing to draw
 }
 
 // coords copies a line of [lon, lat] points (a geo line or ring) as plain pairs.

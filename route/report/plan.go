@@ -225,9 +225,9 @@ type legend struct {
 	RouteStroke string
 	Counts      bool
 	Pathways    []legendItem
-	Media      []legendItem
-	Structures []legendItem
-	Crossed    bool // a building some route passes through
+	Media       []legendItem
+	Structures  []legendItem
+	Crossed     bool // a building some route passes through
 }
 
 // Plan renders the report of a planned scenario as one self-contained HTML page. It fails
