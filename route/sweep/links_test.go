@@ -5,6 +5,7 @@ import (
 	"net/url"
 	"os"
 	"path/filepath"
+	"strings"
 	"testing"
 
 	"spanwright/route"
@@ -78,4 +79,28 @@ func TestScenarioLinks(t *testing.T) {
 		t.Fatal(err)
 	}
 	check("merge in place", whole, func(j Judged) string { return j.ID })
+}
+
+// TestCleanDottedIDs checks that a scenario folder left half-written by a stopped sweep
+// (tmpPrefix, the id, a dot, os.MkdirTemp's digits) is removed by the next run when the id
+// itself holds a dot, as a numeric axis's does (snap_m-0.5).
+func TestCleanDottedIDs(t *testing.T) {
+	t.Parallel()
+	f := parseInline(t, "vary: {design.snap_m: [0.5]}")
+	id := f.Scenarios()[0].ID
+	if !strings.Contains(id, ".") {
+		t.Fatalf("id %s holds no dot", id)
+	}
+	out := t.TempDir()
+	left := filepath.Join(out, tmpPrefix+id+".123456")
+	if err := os.MkdirAll(left, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	run(t, f, Options{Out: out, Jobs: 1})
+	if _, err := os.Stat(left); err == nil {
+		t.Errorf("%s left behind", left)
+	}
+	if _, err := os.Stat(filepath.Join(out, id, "summary.json")); err != nil {
+		t.Errorf("scenario %s not written: %v", id, err)
+	}
 }

@@ -308,7 +308,8 @@ func newRunner(f *File, opt Options) (*runner, error) {
 	return r, nil
 }
 
-// tmpPrefix starts the name of a scenario folder being written; the id follows, then a dot.
+// tmpPrefix starts the name of a scenario folder being written; the id follows (it may hold
+// dots: snap_m-0.5), then a dot and os.MkdirTemp's digits.
 const tmpPrefix = ".tmp-"
 
 // clean removes what a sweep stopped by force (power cut, kill -9) left of this run's
@@ -328,8 +329,9 @@ func (r *runner) clean(mine []Scenario) error {
 		if !e.IsDir() || !strings.HasPrefix(n, tmpPrefix) {
 			continue
 		}
-		id, _, ok := strings.Cut(strings.TrimPrefix(n, tmpPrefix), ".")
-		if ok && ids[id] {
+		rest := strings.TrimPrefix(n, tmpPrefix)
+		dot := strings.LastIndexByte(rest, '.')
+		if dot > 0 && ids[rest[:dot]] {
 			if err := os.RemoveAll(filepath.Join(r.out, n)); err != nil {
 				return err
 			}
