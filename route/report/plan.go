@@ -688,7 +688,7 @@ func legendOf(r *route.Result, med map[string]mediumInfo, order []string, m mapV
 		{Class: "pw-tray", Label: "existing cable tray"},
 		{Class: "pw-other", Label: "other pathway"},
 		{Class: "pw-proposed", Label: "proposed trench, not used (dashed)"},
-		{Class: "pw-new", Label: "new trench opened by this plan (dashed)"},
+		{Class: "pw-new", Label: "new pathway opened by this plan (dashed)"},
 	} {
 		if have[it.Class] {
 			lg.Pathways = append(lg.Pathways, it)
