@@ -9,6 +9,7 @@ import (
 	"syscall"
 
 	"github.com/urfave/cli/v2"
+	"github.com/xrash/smetrics"
 
 	"spanwright/geo/input"
 	"spanwright/route"
@@ -123,32 +124,11 @@ func unknownCommand(name string) error {
 	hint := ""
 	best := 3
 	for _, c := range allCommands {
-		if d := editDistance(strings.ToLower(name), c); d < best {
+		if d := smetrics.WagnerFischer(strings.ToLower(name), c, 1, 1, 1); d < best { // Levenshtein distance
 			best, hint = d, fmt.Sprintf(" (did you mean %s?)", c)
 		}
 	}
 	return usageError{fmt.Errorf("unknown command %q%s; the commands are %s (spanwright --help)", name, hint, strings.Join(allCommands, ", "))}
-}
-
-// editDistance is the Levenshtein distance between a and b, in bytes.
-func editDistance(a, b string) int {
-	prev := make([]int, len(b)+1)
-	for j := range prev {
-		prev[j] = j
-	}
-	for i := 1; i <= len(a); i++ {
-		cur := make([]int, len(b)+1)
-		cur[0] = i
-		for j := 1; j <= len(b); j++ {
-			cost := 1
-			if a[i-1] == b[j-1] {
-				cost = 0
-			}
-			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
-		}
-		prev = cur
-	}
-	return prev[len(b)]
 }
 
 // runApp runs the command line args (args[0] is the program) as main does: flags after

@@ -4,6 +4,7 @@ import (
 	"os"
 	"path/filepath"
 	"runtime/debug"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
@@ -94,7 +95,7 @@ func TestHelpListsExitStatuses(t *testing.T) {
 		for _, s := range exitStatuses {
 			listed := strings.Contains(out[i:], "\n"+strings.Repeat(" ", 3)) &&
 				containsStatus(out[i:], s.Code)
-			want := cmd == "" || contains(s.Commands, cmd)
+			want := cmd == "" || slices.Contains(s.Commands, cmd)
 			if listed != want {
 				t.Errorf("spanwright %s --help: status %d listed %v, want %v", cmd, s.Code, listed, want)
 			}
@@ -106,15 +107,6 @@ func containsStatus(help string, code int) bool {
 	for _, l := range strings.Split(help, "\n") {
 		f := strings.Fields(l)
 		if len(f) > 1 && f[0] == strconv.Itoa(code) {
-			return true
-		}
-	}
-	return false
-}
-
-func contains(list []string, s string) bool {
-	for _, x := range list {
-		if x == s {
 			return true
 		}
 	}

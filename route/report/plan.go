@@ -680,7 +680,7 @@ func legendOf(r *route.Result, med map[string]mediumInfo, order []string, m mapV
 			emi = true
 		}
 	}
-	for _, it := range []legendItem{
+	lg.Pathways = present(have, []legendItem{
 		{Class: "pw-duct", Label: "existing duct"},
 		{Class: "pw-tunnel", Label: "existing utility tunnel"},
 		{Class: "pw-aerial", Label: "existing aerial (pole line)"},
@@ -689,11 +689,7 @@ func legendOf(r *route.Result, med map[string]mediumInfo, order []string, m mapV
 		{Class: "pw-other", Label: "other pathway"},
 		{Class: "pw-proposed", Label: "proposed trench, not used (dashed)"},
 		{Class: "pw-new", Label: "new pathway opened by this plan (dashed)"},
-	} {
-		if have[it.Class] {
-			lg.Pathways = append(lg.Pathways, it)
-		}
-	}
+	})
 	if len(net.Access) > 0 {
 		for _, a := range net.Access {
 			if len(a.Lateral) >= 2 {
@@ -739,22 +735,29 @@ func legendOf(r *route.Result, med map[string]mediumInfo, order []string, m mapV
 	for _, w := range append(append([]svgPath(nil), m.Works...), m.Carriers...) {
 		over[w.Class] = true
 	}
-	for _, it := range []legendItem{
+	lg.Over = present(over, []legendItem{
 		{Class: "nw-trench", Label: "new trench the plan builds (long dashes)"},
 		{Class: "nw-bore", Label: "new directional bore the plan builds (dots)"},
 		{Class: "on-tunnel", Label: "route in a utility tunnel (thin brown line)"},
 		{Class: "on-aerial", Label: "route on a pole line, aerial (dark dots)"},
-	} {
-		if over[it.Class] {
-			lg.Over = append(lg.Over, it)
-		}
-	}
+	})
 	lg.RouteStroke = "#9aa3ad"
 	if len(order) > 0 {
 		lg.RouteStroke = med[order[0]].Hex
 	}
 	lg.Counts = len(m.Counts) > 0
 	return lg
+}
+
+// present keeps the legend items whose class the map draws.
+func present(drawn map[string]bool, items []legendItem) []legendItem {
+	var out []legendItem
+	for _, it := range items {
+		if drawn[it.Class] {
+			out = append(out, it)
+		}
+	}
+	return out
 }
 
 // ductRows lists the fill of every duct that holds cable on a span of limited capacity:
