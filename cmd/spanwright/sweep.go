@@ -151,6 +151,9 @@ func printReport(w io.Writer, rep *sweep.Report, shard sweep.Shard) {
 		}
 		fmt.Fprintf(w, "  failed %s: %s\n", escape.Terminal(r.ID), escape.Terminal(strings.ReplaceAll(r.Error, "\n", "; ")))
 	}
+	if rep.DemoPrices > 0 {
+		fmt.Fprintf(w, "warning: %s priced by the invented demo price book built into spanwright: not a quotation (see each summary.json)\n", scenarios(rep.DemoPrices))
+	}
 	fmt.Fprintf(w, "written: %s\n", escape.Terminal(strings.Join(rep.Files, ", ")))
 	if !shard.Whole() {
 		fmt.Fprintln(w, "when every shard has run, join them with: spanwright merge DIR... --out DIR")

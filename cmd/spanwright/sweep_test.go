@@ -21,6 +21,7 @@ func TestSweepCommand(t *testing.T) {
 	for _, want := range []string{
 		"sweep: 6 scenarios: 4 ok, 1 with infeasible legs, 1 failed\n",
 		`  failed bad-hub-0d4d7434: bad-hub-0d4d7434/plan.yaml:8:6: hub: want the id of a building, got "NOWHERE", which no building has`,
+		"warning: 5 scenarios priced by the invented demo price book built into spanwright",
 		filepath.Join(out, "compare.xlsx"),
 	} {
 		if !strings.Contains(stdout, want) {

@@ -88,6 +88,7 @@ type sweepView struct {
 	Rows       []sweepRow
 	Plot       scatter
 	Cheapest   string
+	DemoPrices int // scenarios priced by the invented demo price book
 }
 
 // Sweep renders a sweep's comparison as one self-contained HTML page: the table of every
@@ -150,6 +151,9 @@ func sweepViewOf(c *sweep.Comparison, opt SweepOptions) *sweepView {
 		}
 		if j.Pareto {
 			v.Pareto++
+		}
+		if j.DemoPrices {
+			v.DemoPrices++
 		}
 		row := sweepRowOf(j, c.Keys)
 		for i := range row.Cells {

@@ -101,6 +101,7 @@ type Report struct {
 	Infeasible int // planned with some legs infeasible
 	Failed     int
 	Failures   []Row    // the failed scenarios' rows, in index order
+	DemoPrices int      // scenarios priced by the invented demo price book
 	Files      []string // files written besides the scenario folders, sorted
 }
 
@@ -119,6 +120,9 @@ func (r *Report) Err() error {
 }
 
 func (r *Report) count(row Row) {
+	if row.DemoPrices {
+		r.DemoPrices++
+	}
 	switch row.Status {
 	case StatusOK:
 		r.OK++
