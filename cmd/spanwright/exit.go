@@ -35,7 +35,7 @@ var exitStatuses = []exitStatus{
 	{exitInternal, "internal error: a bug in spanwright, please report it", append([]string{""}, allCommands...)},
 	{exitInvalid, "invalid input or usage: an unknown command or flag, an invalid file (every problem listed at once), " +
 		"an output that would replace an input or an existing file, an --out folder holding a sub-folder; " +
-		"for sweep a scenario that failed, for merge rows that do not make one whole sweep; running the same command again cannot succeed",
+		"for sweep and merge a scenario that failed, for merge rows that do not make one whole sweep; running the same command again cannot succeed",
 		append([]string{""}, allCommands...)},
 	{exitInfeasible, "finished, but some links are infeasible (listed with their reasons; everything else is written)",
 		[]string{"check", "plan", "sweep", "merge"}},
