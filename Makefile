@@ -63,11 +63,13 @@ golden:
 bench:
 	$(GO) test -run '^$$' -bench . -benchmem ./...
 
-# the HTML reports in a real browser (not part of make test): installs Debian's chromium
-# when it is missing, renders the demo's report.html and a sweep's compare.html headless to
-# PNG and PDF in testdata/e2e/out/, and fails on a blank, clipped or wrongly sized page.
+# the HTML reports in a real browser (not part of make test): installs Debian's chromium and
+# poppler-utils (pdftotext, to read the printed pages back) when missing, renders the demo's
+# and the starter's report.html and two sweeps' compare.html headless to PNG and PDF in
+# testdata/e2e/out/, and fails on a blank, clipped or wrongly sized page.
 e2e:
 	test -x /usr/bin/chromium || (apt-get update && apt-get install -y chromium)
+	command -v pdftotext >/dev/null || (apt-get update && apt-get install -y poppler-utils)
 	$(GO) test -count=1 -tags e2e -v ./testdata/e2e/
 
 # a minute of coverage-guided fuzzing of the GeoJSON reader, and one of the plan reader

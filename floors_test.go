@@ -23,6 +23,7 @@ var floors = map[string]int{
 	"route/optimize":           0,
 	"route/escape":             0,
 	"route/fileset":            0,
+	"route/starter":            0,
 	"route/internal/ctxio":     0,
 	"route/internal/campusgen": 0,
 	"internal/pgtest":          0, // tests only: a throwaway PostgreSQL with PostGIS

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"io/fs"
@@ -8,20 +9,13 @@ import (
 	"syscall"
 
 	"github.com/urfave/cli/v2"
+	"github.com/xrash/smetrics"
 
 	"spanwright/geo/input"
 	"spanwright/route"
 	"spanwright/route/fileset"
 	"spanwright/route/output"
-)
-
-// Exit statuses. 130 and 143 (stopped by a signal) are set by main.
-const (
-	exitOK          = 0
-	exitInternal    = 1 // a bug in spanwright
-	exitInvalid     = 2 // invalid input or usage, an output that would overwrite an input
-	exitInfeasible  = 3 // finished, but some links are infeasible
-	exitEnvironment = 4 // the machine refused: an output could not be written, a file not read
+	"spanwright/route/starter"
 )
 
 // usageError marks a mistake in the command line.
@@ -50,6 +44,7 @@ func exitCode(err error) int {
 		// an I/O error is the machine's fault, whatever loader reports it.
 		return exitEnvironment
 	case errors.As(err, &ue), errors.As(err, &ip), // every input problem, of every file kind
+		errors.Is(err, starter.ErrExists),
 		errors.Is(err, errInvalid), errors.Is(err, fs.ErrNotExist),
 		strings.HasPrefix(err.Error(), "Required flag"), strings.HasPrefix(err.Error(), "flag provided but not defined"):
 		// urfave/cli reports missing required flags as plain errors; they are usage mistakes.
@@ -78,36 +73,73 @@ var errInvalid = errors.New("invalid input")
 
 func newApp() *cli.App {
 	app := &cli.App{
-		Name:  "spanwright",
-		Usage: "plan campus network backbones: routes, media, loss budgets and costs",
+		Name:    "spanwright",
+		Usage:   "plan campus network backbones: routes, media, loss budgets and costs",
+		Version: version(),
 		Description: "Reads a campus as GeoJSON and a plan as YAML, routes every backbone link over the\n" +
-			"pathway network, chooses its medium, checks loss budgets and writes the results.\n\n" +
-			"EXIT STATUS\n   0 done; 1 internal error (a bug: please report it); 2 invalid input or usage (an unknown\n" +
-			"   command, a bad flag, an invalid file, an output that would overwrite an input or an --out\n" +
-			"   folder holding a sub-folder); 3 plan finished but some links are infeasible; 4 the machine\n" +
-			"   refused: an output could not be written (disk full, no permission, --out names a file) or\n" +
-			"   an input not read (no permission, I/O error); 130 stopped by Ctrl-C, 143 by SIGTERM.",
+			"pathway network, chooses its medium, checks loss budgets and writes the results.\n" +
+			"New here? `spanwright starter DIR` writes a small campus, a plan and a price-book template to edit.\n\n" +
+			exitHelp(""),
 		Commands: []*cli.Command{
 			checkCommand(),
 			planCommand(),
 			demoCommand(),
 			mediaCommand(),
 			sweepCommand(), mergeCommand(),
+			starterCommand(),
 		},
 		Action: func(c *cli.Context) error {
-			if c.NArg() > 0 {
-				return usageError{fmt.Errorf("unknown command %q; the commands are check, plan, demo, media, sweep and merge (spanwright --help)", c.Args().First())}
+			if c.NArg() == 0 {
+				return cli.ShowAppHelp(c)
 			}
-			return cli.ShowAppHelp(c)
+			if c.Args().First() == "help" { // `spanwright help plan`, as many programs take it
+				if c.NArg() == 1 {
+					return cli.ShowAppHelp(c)
+				}
+				return cli.ShowCommandHelp(c, c.Args().Get(1))
+			}
+			return unknownCommand(c.Args().First())
+		},
+		CommandNotFound: func(c *cli.Context, name string) {
+			c.App.Metadata[notFoundKey] = unknownCommand(name)
 		},
 		OnUsageError:    onUsageError,
 		HideHelpCommand: true,
 		ExitErrHandler:  func(*cli.Context, error) {},
+		Metadata:        map[string]any{},
 	}
 	for _, c := range app.Commands {
 		c.OnUsageError = onUsageError
 	}
 	return app
+}
+
+// notFoundKey is where CommandNotFound leaves its error in App.Metadata: urfave/cli v2 calls
+// it (for `spanwright --help NAME`) without a way to return one; runApp returns it.
+const notFoundKey = "spanwright: command not found"
+
+// unknownCommand is the usage error for a command name spanwright does not have, with the
+// nearest command when one is within two edits, and the list of commands.
+func unknownCommand(name string) error {
+	hint := ""
+	best := 3
+	for _, c := range allCommands {
+		if d := smetrics.WagnerFischer(strings.ToLower(name), c, 1, 1, 1); d < best { // Levenshtein distance
+			best, hint = d, fmt.Sprintf(" (did you mean %s?)", c)
+		}
+	}
+	return usageError{fmt.Errorf("unknown command %q%s; the commands are %s (spanwright --help)", name, hint, strings.Join(allCommands, ", "))}
+}
+
+// runApp runs the command line args (args[0] is the program) as main does: flags after
+// positional arguments are moved ahead of them (intersperse), and an unknown command is a
+// usage error however urfave/cli met it.
+func runApp(ctx context.Context, app *cli.App, args []string) error {
+	err := app.RunContext(ctx, intersperse(app, args))
+	if e, ok := app.Metadata[notFoundKey].(error); ok && err == nil {
+		return e
+	}
+	return err
 }
 
 // unitsFlag is shared by every command that prints lengths.

@@ -18,10 +18,11 @@ import (
 
 func checkCommand() *cli.Command {
 	return &cli.Command{
-		Name:      "check",
-		Usage:     "validate a plan or campus files and summarise the pathway network",
-		ArgsUsage: "PLAN.yaml | CAMPUS.geojson|CAMPUS.gpkg...",
-		Flags:     []cli.Flag{unitsFlag, maxInputFlag, campusDBFlag},
+		Name:        "check",
+		Description: "Validates a plan (everything plan rejects before routing) or campus files (GeoJSON or\nGeoPackage) and summarises the pathway network.\n\n" + exitHelp("check"),
+		Usage:       "validate a plan or campus files and summarise the pathway network",
+		ArgsUsage:   "PLAN.yaml | CAMPUS.geojson|CAMPUS.gpkg...",
+		Flags:       []cli.Flag{unitsFlag, maxInputFlag, campusDBFlag},
 		Action: func(c *cli.Context) error {
 			opt, err := writeOptions(c)
 			if err != nil {

@@ -12,8 +12,9 @@ import (
 
 func demoCommand() *cli.Command {
 	return &cli.Command{
-		Name:  "demo",
-		Usage: "plan the invented demo campus embedded in the binary",
+		Name:        "demo",
+		Description: "Plans the invented demo campus and its invented price book (not a quotation) into --out.\n\n" + exitHelp("demo"),
+		Usage:       "plan the invented demo campus embedded in the binary",
 		Flags: []cli.Flag{
 			&cli.PathFlag{Name: "out", Value: "demo-out", Usage: "output folder", TakesFile: true},
 			unitsFlag,

@@ -25,7 +25,7 @@ func main() {
 	}()
 	app := newApp()
 	app.Writer = escape.NewTerminal(os.Stdout) // ids and names from the input, printed
-	err := app.RunContext(ctx, intersperse(app, os.Args))
+	err := runApp(ctx, app, os.Args)
 	escape.FlushTerminal(app.Writer)
 	signal.Stop(sigs)
 	cancel()

@@ -19,7 +19,7 @@ func run(t *testing.T, args ...string) (string, string, int) {
 	app := newApp()
 	var out, errOut bytes.Buffer
 	app.Writer, app.ErrWriter = &out, &errOut
-	err := app.RunContext(context.Background(), intersperse(app, append([]string{"spanwright"}, args...)))
+	err := runApp(context.Background(), app, append([]string{"spanwright"}, args...))
 	msg := errOut.String()
 	if err != nil {
 		msg += err.Error()

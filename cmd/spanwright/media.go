@@ -10,8 +10,9 @@ import (
 
 func mediaCommand() *cli.Command {
 	return &cli.Command{
-		Name:  "media",
-		Usage: "print the media catalog as a reach-and-loss table",
+		Name:        "media",
+		Description: "Prints the media catalog as a reach-and-loss table.\n\n" + exitHelp("media"),
+		Usage:       "print the media catalog as a reach-and-loss table",
 		Flags: []cli.Flag{
 			&cli.StringFlag{Name: "rate", Usage: "only applications at this data rate, e.g. 10G"},
 			&cli.PathFlag{Name: "catalog", Usage: "a catalog YAML file instead of the embedded one", TakesFile: true},

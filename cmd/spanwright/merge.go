@@ -21,10 +21,8 @@ func mergeCommand() *cli.Command {
 		Description: "Reads the rows files (rows.jsonl, rows-i-of-n.jsonl) of every folder named and\n" +
 			"writes compare.csv, compare.xlsx, compare.md, compare.html and rows.jsonl to --out as one set,\n" +
 			"the same bytes as the unsharded sweep writes. Scenario folders stay where the shards wrote them.\n\n" +
-			"EXIT STATUS\n   0 every scenario planned with all legs feasible, 1 internal error (a bug),\n" +
-			"   2 the rows do not make one whole sweep (missing shards, different sweeps) or some\n" +
-			"   scenario failed, 3 some scenario has infeasible legs, 4 the comparison could not be\n" +
-			"   written (disk full, no permission, --out names a file).",
+			exitHelp("merge"),
+
 		Flags: []cli.Flag{
 			&cli.PathFlag{Name: "out", Usage: "output folder for the comparison", Required: true, TakesFile: true},
 		},

@@ -21,9 +21,10 @@ import (
 
 func planCommand() *cli.Command {
 	return &cli.Command{
-		Name:      "plan",
-		Usage:     "route and specify every backbone link of a plan and write the results",
-		ArgsUsage: "PLAN.yaml",
+		Name:        "plan",
+		Description: "Plans every backbone link of the plan and writes routes.geojson, links.csv, summary.json,\nbom.csv, bom.xlsx and report.html to --out as one set.\n\n" + exitHelp("plan"),
+		Usage:       "route and specify every backbone link of a plan and write the results",
+		ArgsUsage:   "PLAN.yaml",
 		Flags: []cli.Flag{
 			&cli.PathFlag{Name: "out", Usage: "output folder", Required: true, TakesFile: true},
 			unitsFlag,

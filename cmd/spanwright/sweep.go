@@ -35,10 +35,8 @@ func sweepCommand() *cli.Command {
 			"scenario's plan.yaml writes its full set later.\n\n" +
 			"With --shard i/n only the scenarios whose index mod n is i-1 are planned and their\n" +
 			"rows written to OUT/rows-i-of-n.jsonl; `spanwright merge` joins the shards.\n\n" +
-			"EXIT STATUS\n   0 every scenario planned with all legs feasible, 1 internal error (a bug),\n" +
-			"   2 the sweep file is invalid or some scenario failed (the others are still written),\n" +
-			"   3 some scenario has infeasible legs, 4 an output could not be written (disk full, no\n" +
-			"   permission, --out names a file; resume once put right), 130/143 stopped by a signal.",
+			exitHelp("sweep"),
+
 		Flags: []cli.Flag{
 			&cli.PathFlag{Name: "out", Usage: "output folder", Required: true, TakesFile: true},
 			&cli.IntFlag{Name: "jobs", Value: runtime.NumCPU(), Usage: "scenarios planned at once"},
@@ -155,6 +153,9 @@ func printReport(w io.Writer, rep *sweep.Report, shard sweep.Shard) {
 			break
 		}
 		fmt.Fprintf(w, "  failed %s: %s\n", escape.Terminal(r.ID), escape.Terminal(strings.ReplaceAll(r.Error, "\n", "; ")))
+	}
+	if rep.DemoPrices > 0 {
+		fmt.Fprintf(w, "warning: %s priced by the invented demo price book built into spanwright: not a quotation (see each summary.json)\n", scenarios(rep.DemoPrices))
 	}
 	fmt.Fprintf(w, "written: %s\n", escape.Terminal(strings.Join(rep.Files, ", ")))
 	if !shard.Whole() {

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
 )
@@ -20,6 +21,7 @@ func TestSweepCommand(t *testing.T) {
 	for _, want := range []string{
 		"sweep: 6 scenarios: 4 ok, 1 with infeasible legs, 1 failed\n",
 		`  failed bad-hub-0d4d7434: bad-hub-0d4d7434/plan.yaml:8:6: hub: want the id of a building, got "NOWHERE", which no building has`,
+		"warning: 5 scenarios priced by the invented demo price book built into spanwright",
 		filepath.Join(out, "compare.xlsx"),
 	} {
 		if !strings.Contains(stdout, want) {
@@ -52,12 +54,36 @@ func TestSweepCommand(t *testing.T) {
 	if code != exitInvalid || !strings.Contains(stdout, "sweep: 6 scenarios: 4 ok, 1 with infeasible legs, 1 failed") {
 		t.Errorf("merge: status %d, stdout %q, %s", code, stdout, msg)
 	}
-	for _, name := range []string{"compare.csv", "compare.md", "compare.xlsx", "compare.html", "rows.jsonl"} {
+	for _, name := range []string{"compare.csv", "compare.md", "compare.xlsx", "rows.jsonl"} {
 		a, err1 := os.ReadFile(filepath.Join(out, name))
 		b, err2 := os.ReadFile(filepath.Join(merged, name))
 		if err1 != nil || err2 != nil || !bytes.Equal(a, b) {
 			t.Errorf("merged %s differs from the unsharded one (%v, %v)", name, err1, err2)
 		}
+	}
+	// compare.html links each scenario's folder relative to itself: merged elsewhere, the
+	// links lead back to the shards' folder; merged beside the scenarios, the page is the
+	// unsharded sweep's, byte for byte.
+	page, err := os.ReadFile(filepath.Join(merged, "compare.html"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	links := regexp.MustCompile(`href="([^"#]+)"`).FindAllSubmatch(page, -1)
+	if len(links) != 5 {
+		t.Errorf("merged compare.html: %d scenario links, want 5 (one per planned scenario)", len(links))
+	}
+	for _, l := range links {
+		if _, err := os.Stat(filepath.Join(merged, filepath.FromSlash(string(l[1])))); err != nil || !strings.HasPrefix(string(l[1]), "../") {
+			t.Errorf("merged compare.html links %s: %v", l[1], err)
+		}
+	}
+	if _, _, code := run(t, "merge", shards, "--out", shards); code != exitInvalid {
+		t.Errorf("merge in place: status %d", code)
+	}
+	a, err1 := os.ReadFile(filepath.Join(out, "compare.html"))
+	b, err2 := os.ReadFile(filepath.Join(shards, "compare.html"))
+	if err1 != nil || err2 != nil || !bytes.Equal(a, b) {
+		t.Errorf("compare.html merged beside the scenarios differs from the unsharded one (%v, %v)", err1, err2)
 	}
 	if _, msg, code := run(t, "merge", t.TempDir(), "--out", t.TempDir()); code != exitInvalid || !strings.Contains(msg, "no rows file") {
 		t.Errorf("merge of an empty folder: status %d, %s", code, msg)

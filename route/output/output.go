@@ -298,7 +298,10 @@ type Summary struct {
 	WorstMarginDB *float64       `json:"worst_margin_db"`
 	MediaMix      map[string]int `json:"media_mix"` // feasible legs per medium
 	Currency      string         `json:"currency,omitempty"`
-	CableM        float64        `json:"cable_m"` // cable bought, every cable of every feasible leg, waste included
+	// DemoPrices is DemoPricesWarning when the embedded demo price book priced the plan
+	// (the plan named no prices: file and no --prices was given); absent otherwise.
+	DemoPrices string  `json:"demo_prices_warning,omitempty"`
+	CableM     float64 `json:"cable_m"` // cable bought, every cable of every feasible leg, waste included
 
 	// TotalCents is the bill of materials' grand total: every line, contingency, overhead
 	// and tax.
@@ -354,6 +357,9 @@ func Summarize(r *route.Result) Summary {
 		Links: len(r.Links), Legs: len(r.Legs), Warnings: append([]string{}, r.Warnings...), Notes: r.Notes,
 		MediaMix: map[string]int{}, Currency: r.Currency, NewTrenchM: round1(newWorkM(r.Estimate)),
 		BudgetCents: int64(r.Plan.Budget)}
+	if DemoPrices(r) {
+		s.DemoPrices = DemoPricesWarning
+	}
 	feasibleLegs := map[string]int{}
 	for _, l := range r.Legs {
 		s.ModelCents += l.Cost.TotalCents()
@@ -542,7 +548,21 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 	if s.WarningCount > 0 {
 		fmt.Fprintf(w, "%d warnings (see summary.json)\n", s.WarningCount)
 	}
+	if s.DemoPrices != "" {
+		fmt.Fprintf(w, "warning: %s\n", s.DemoPrices)
+	}
 	return nil
+}
+
+// DemoPricesWarning is the warning printed on the terminal, written in summary.json and shown
+// in the report's header whenever the embedded demo price book priced a plan.
+const DemoPricesWarning = "costs are from the invented demo price book built into spanwright: " +
+	"not a quotation; name your own price book (prices: in the plan, or --prices; `spanwright starter` writes a template)"
+
+// DemoPrices reports whether r was priced by the embedded demo price book: the book the
+// media engine takes when a plan names none (media.NewEngine), known by its file name.
+func DemoPrices(r *route.Result) bool {
+	return r.Engine != nil && r.Engine.PriceBook().File == media.DefaultPricesFile
 }
 
 // ftOrM formats a length for an output edge: metres, or feet when imperial.

@@ -4,12 +4,14 @@ import (
 	"context"
 	"fmt"
 	"html/template"
+	"math"
 	"sort"
 	"strconv"
 	"strings"
 
 	"spanwright/geo"
 	"spanwright/route"
+	"spanwright/route/items"
 	"spanwright/route/output"
 	"spanwright/route/routing"
 )
@@ -54,6 +56,13 @@ type mark struct {
 	Title string
 }
 
+// countLabel is the cable count of a span, at its middle.
+type countLabel struct {
+	X, Y  string
+	Text  string
+	Title string
+}
+
 type scaleBar struct {
 	X, Y      string
 	Segs      []scaleSeg
@@ -81,13 +90,19 @@ type mapView struct {
 	Laterals   []svgPath
 	Routes     []routePath
 	Structures []mark
-	Turns      []mark // handholes the plan adds where a route turns between pathways
-	Entrances  []mark // every way into every building, at its junction
-	Crossed    bool   // some building is drawn as one a route passes through
-	Scale      scaleBar
-	NorthX     string
-	NorthY     string
-	Empty      bool // nothing to draw
+	Turns      []mark // handholes the plan adds: where a route turns between pathways, or new pathway joins
+	// Carriers mark, over the routes, the spans in a tunnel or on a pole line that carry cable.
+	Carriers []svgPath
+	// Works are the new construction, drawn over the routes: opened proposed spans and the
+	// trench or bore for ducts added beside existing spans, by method.
+	Works     []svgPath
+	Counts    []countLabel // the number of cables in each span that carries any
+	Entrances []mark       // every way into every building, at its junction
+	Crossed   bool         // some building is drawn as one a route passes through
+	Scale     scaleBar
+	NorthX    string
+	NorthY    string
+	Empty     bool // nothing to draw
 }
 
 // coords copies a line of [lon, lat] points (a geo line or ring) as plain pairs.
@@ -287,10 +302,15 @@ func buildMap(ctx context.Context, r *route.Result, opt Options, med map[string]
 		m.Routes = append(m.Routes, routePath{D: d, Stroke: mi.Hex, Dash: mi.Dash, Leg: l.Link.ID + "/" + l.Name, Medium: l.Medium,
 			Title: fmt.Sprintf("%s %s leg, %s to %s: %s (%s), %s", l.Link.ID, l.Name, l.Link.From, l.Link.To, mi.Label, mi.ColourLabel, opt.lengthU(l.RouteM))})
 	}
+	m.Carriers, m.Works, m.Counts = overRoutes(r, p, opt)
 	for _, s := range c.Structures {
 		q := p.at(s.Point[0], s.Point[1])
 		m.Structures = append(m.Structures, mark{X: num(q.X), Y: num(q.Y), Shape: structureShape(s.Type), Class: "st",
 			Title: s.ID + ": " + s.Type})
+	}
+	joins := map[string]bool{}
+	for _, h := range r.Handholes {
+		joins[h.Junction] = joins[h.Junction] || h.Joins
 	}
 	for _, id := range ps.turnIDs {
 		j, ok := net.Junction(id)
@@ -298,8 +318,23 @@ func buildMap(ctx context.Context, r *route.Result, opt Options, med map[string]
 			continue // a junction the network does not draw: the legs table still names it
 		}
 		q := p.at(j.Point[0], j.Point[1])
+		title := id + ": handhole to add, where a route turns between pathways (" + strings.Join(ps.turns[id], ", ") + ")"
+		if joins[id] {
+			title += "; new pathway joins the network there"
+		}
+		m.Turns = append(m.Turns, mark{X: num(q.X), Y: num(q.Y), Shape: "square", Class: "st turn", Title: title})
+	}
+	for _, h := range r.Handholes {
+		if !h.Joins || ps.turns[h.Junction] != nil {
+			continue
+		}
+		j, ok := net.Junction(h.Junction)
+		if !ok {
+			continue
+		}
+		q := p.at(j.Point[0], j.Point[1])
 		m.Turns = append(m.Turns, mark{X: num(q.X), Y: num(q.Y), Shape: "square", Class: "st turn",
-			Title: id + ": handhole to add, where a route turns between pathways (" + strings.Join(ps.turns[id], ", ") + ")"})
+			Title: h.Junction + ": handhole to add, where new pathway joins the network there"})
 	}
 	for _, e := range net.Entrances {
 		j, ok := net.Junction(e.Junction)
@@ -437,6 +472,8 @@ func (m mapView) HTML() template.HTML {
 		w(` data-leg="`, t(r.Leg), `" data-medium="`, t(r.Medium), `"><title>`, t(r.Title), `</title></path>`)
 	}
 	w("</g>\n")
+	paths("carriers", m.Carriers, "")
+	paths("works", m.Works, "")
 	marks := func(group string, ms []mark) {
 		w(`<g class="`, t(group), `">`)
 		for _, s := range ms {
@@ -462,6 +499,10 @@ func (m mapView) HTML() template.HTML {
 	for _, bd := range m.Buildings {
 		w(`<text x="`, t(bd.LabelX), `" y="`, t(bd.LabelY), `" class="`, t(bd.LabelCls), `" text-anchor="middle">`, t(bd.ID), `</text>`)
 	}
+	w("</g>\n", `<g class="counts">`)
+	for _, c := range m.Counts {
+		w(`<text x="`, t(c.X), `" y="`, t(c.Y), `" class="cnt" text-anchor="middle" dy="3.5">`, t(c.Text), `<title>`, t(c.Title), `</title></text>`)
+	}
 	w("</g>\n")
 	w(`<g class="north" transform="translate(`, t(m.NorthX), " ", t(m.NorthY), `)"><path d="M0 0L-7 22L0 17L7 22Z" class="north-arrow"/><text x="-12" y="20" text-anchor="end" class="lbl xc">N</text></g>`, "\n")
 	sb := m.Scale
@@ -476,4 +517,119 @@ func (m mapView) HTML() template.HTML {
 	}
 	w("</svg>")
 	return p.html()
+}
+
+// Cable count labels: a span shorter than countMinPx on the map gets none, nor one whose
+// middle is within countGapPx of a label already placed (larger counts are placed first);
+// the span's tooltip and the duct fill table still give its count.
+const (
+	countMinPx = 18.0
+	countGapPx = 16.0
+)
+
+// overRoutes draws what the routes would hide: the spans in a tunnel or on a pole line that
+// carry cable (a thin line of the pathway's colour along the route), the new construction
+// (trench and bore told apart by their dashes) and each span's cable count.
+func overRoutes(r *route.Result, p *projection, opt Options) (carriers, works []svgPath, counts []countLabel) {
+	net := r.Site.Net
+	opened := map[string]bool{}
+	for _, id := range r.Opened {
+		opened[id] = true
+	}
+	cables, added := map[string]int{}, map[string]int{}
+	for _, f := range r.Fill {
+		cables[f.Span] = f.Cables
+		added[f.Span] = f.AddedDucts
+	}
+	type placed struct {
+		px     xy
+		n      int
+		lenPx  float64
+		spanID string
+	}
+	var cand []placed
+	for i := range net.Spans {
+		s := &net.Spans[i]
+		px := p.line(coords(s.Line))
+		d := pathD(px)
+		if d == "" {
+			continue
+		}
+		n := cables[s.ID]
+		if n > 0 && (s.Type == geo.TypeTunnel || s.Type == geo.TypeAerial) && s.Status != geo.StatusProposed {
+			what := "in a utility tunnel"
+			if s.Type == geo.TypeAerial {
+				what = "on a pole line (aerial)"
+			}
+			carriers = append(carriers, svgPath{D: d, Class: "on-" + s.Type,
+				Title: fmt.Sprintf("%s (pathway %s): cable %s, %s", s.ID, s.PathwayID, what, opt.lengthU(s.LengthM))})
+		}
+		if opened[s.ID] || added[s.ID] > 0 {
+			method := geo.MethodTrench
+			if pb := r.Engine; pb != nil {
+				method = items.MethodOf(pb.PriceBook(), s)
+			}
+			cls, what := "nw-trench", "new trench in "+items.SurfaceOf(s)
+			if method == geo.MethodBore {
+				cls, what = "nw-bore", "new directional bore"
+			}
+			if opened[s.ID] {
+				what += ", the proposed pathway this plan builds"
+			} else {
+				what += fmt.Sprintf(" for %d ducts added beside the existing pathway", added[s.ID])
+			}
+			works = append(works, svgPath{D: d, Class: cls, Title: fmt.Sprintf("%s (pathway %s): %s, %s", s.ID, s.PathwayID, what, opt.lengthU(s.LengthM))})
+		}
+		if n > 0 {
+			mid, l := midpoint(px)
+			cand = append(cand, placed{px: mid, n: n, lenPx: l, spanID: s.ID})
+		}
+	}
+	// Larger counts first, then in span order: the same labels whatever the map's size.
+	sort.SliceStable(cand, func(a, b int) bool { return cand[a].n > cand[b].n })
+	var at []xy
+	for _, c := range cand {
+		if c.lenPx < countMinPx {
+			continue
+		}
+		near := false
+		for _, q := range at {
+			if dx, dy := q.X-c.px.X, q.Y-c.px.Y; dx*dx+dy*dy < countGapPx*countGapPx {
+				near = true
+				break
+			}
+		}
+		if near {
+			continue
+		}
+		at = append(at, c.px)
+		word := "cables"
+		if c.n == 1 {
+			word = "cable"
+		}
+		counts = append(counts, countLabel{X: num(c.px.X), Y: num(c.px.Y), Text: strconv.Itoa(c.n),
+			Title: fmt.Sprintf("%s: %d %s", c.spanID, c.n, word)})
+	}
+	return carriers, works, counts
+}
+
+// midpoint returns the point halfway along a line, in map pixels, and the line's length.
+func midpoint(px []xy) (xy, float64) {
+	total := 0.0
+	for i := 1; i < len(px); i++ {
+		total += math.Hypot(px[i].X-px[i-1].X, px[i].Y-px[i-1].Y)
+	}
+	half := total / 2
+	for i := 1; i < len(px); i++ {
+		seg := math.Hypot(px[i].X-px[i-1].X, px[i].Y-px[i-1].Y)
+		if seg > 0 && half <= seg {
+			f := half / seg
+			return xy{X: px[i-1].X + f*(px[i].X-px[i-1].X), Y: px[i-1].Y + f*(px[i].Y-px[i-1].Y)}, total
+		}
+		half -= seg
+	}
+	if len(px) == 0 {
+		return xy{}, 0
+	}
+	return px[len(px)-1], total
 }

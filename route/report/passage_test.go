@@ -46,12 +46,12 @@ func TestPlanPassage(t *testing.T) {
 	}
 	for _, want := range []string{
 		`class="bldg crossed" fill-rule="evenodd"><title>B; routes pass through it: A-C primary</title>`,
-		`class="st turn"><title>J0002: handhole to add, where a route turns between pathways (A-C primary)</title>`,
+		`class="st turn"><title>J0002: handhole to add, where a route turns between pathways (A-C primary); new pathway joins the network there</title>`,
 		`class="st turn"><title>HH-1: handhole to add, where a route turns between pathways (A-C primary)</title>`,
 		`<span class="small entrances">entrances A:1 → C:1</span>`,
 		`<span class="small crosses">Passes through buildings B</span>`,
 		`<span class="small turns">Turns between pathways at J0002, HH-1, where a handhole is added</span>`,
-		"> building a route passes through</li>", "> handhole to add where a route turns between pathways</li>",
+		"> building a route passes through</li>", "> handhole to add (a route turns between pathways, or new pathway joins)</li>",
 		"> building entrance</li>", "> entrance a leg uses</li>",
 		"<title>A:1: entrance of A (pathway end at the footprint), used by 2 legs</title>",
 		"<title>B:1: entrance of B (pathway end at the footprint), used by 1 leg</title>",

@@ -219,10 +219,15 @@ type legendItem struct {
 }
 
 type legend struct {
-	Pathways   []legendItem
-	Media      []legendItem
-	Structures []legendItem
-	Crossed    bool // a building some route passes through
+	// Over are what the map draws over the routes: new construction, tunnels and pole
+	// lines carrying cable, cable counts; each drawn on a route of RouteStroke.
+	Over        []legendItem
+	RouteStroke string
+	Counts      bool
+	Pathways    []legendItem
+	Media       []legendItem
+	Structures  []legendItem
+	Crossed     bool // a building some route passes through
 }
 
 // Plan renders the report of a planned scenario as one self-contained HTML page. It fails
@@ -675,7 +680,7 @@ func legendOf(r *route.Result, med map[string]mediumInfo, order []string, m mapV
 			emi = true
 		}
 	}
-	for _, it := range []legendItem{
+	lg.Pathways = present(have, []legendItem{
 		{Class: "pw-duct", Label: "existing duct"},
 		{Class: "pw-tunnel", Label: "existing utility tunnel"},
 		{Class: "pw-aerial", Label: "existing aerial (pole line)"},
@@ -683,12 +688,8 @@ func legendOf(r *route.Result, med map[string]mediumInfo, order []string, m mapV
 		{Class: "pw-tray", Label: "existing cable tray"},
 		{Class: "pw-other", Label: "other pathway"},
 		{Class: "pw-proposed", Label: "proposed trench, not used (dashed)"},
-		{Class: "pw-new", Label: "new trench opened by this plan (dashed)"},
-	} {
-		if have[it.Class] {
-			lg.Pathways = append(lg.Pathways, it)
-		}
-	}
+		{Class: "pw-new", Label: "new pathway opened by this plan (dashed)"},
+	})
 	if len(net.Access) > 0 {
 		for _, a := range net.Access {
 			if len(a.Lateral) >= 2 {
@@ -721,7 +722,7 @@ func legendOf(r *route.Result, med map[string]mediumInfo, order []string, m mapV
 		lg.Structures = append(lg.Structures, legendItem{Shape: structureShape(t), Class: "st", Label: t})
 	}
 	if len(m.Turns) > 0 {
-		lg.Structures = append(lg.Structures, legendItem{Shape: "square", Class: "st turn", Label: "handhole to add where a route turns between pathways"})
+		lg.Structures = append(lg.Structures, legendItem{Shape: "square", Class: "st turn", Label: "handhole to add (a route turns between pathways, or new pathway joins)"})
 	}
 	if len(m.Entrances) > 0 {
 		lg.Structures = append(lg.Structures, legendItem{Shape: "dot", Class: "ent", Label: "building entrance"})
@@ -730,7 +731,33 @@ func legendOf(r *route.Result, med map[string]mediumInfo, order []string, m mapV
 		lg.Structures = append(lg.Structures, legendItem{Shape: "dot", Class: "ent used", Label: "entrance a leg uses"})
 	}
 	lg.Crossed = m.Crossed
+	over := map[string]bool{}
+	for _, w := range append(append([]svgPath(nil), m.Works...), m.Carriers...) {
+		over[w.Class] = true
+	}
+	lg.Over = present(over, []legendItem{
+		{Class: "nw-trench", Label: "new trench the plan builds (long dashes)"},
+		{Class: "nw-bore", Label: "new directional bore the plan builds (dots)"},
+		{Class: "on-tunnel", Label: "route in a utility tunnel (thin brown line)"},
+		{Class: "on-aerial", Label: "route on a pole line, aerial (dark dots)"},
+	})
+	lg.RouteStroke = "#9aa3ad"
+	if len(order) > 0 {
+		lg.RouteStroke = med[order[0]].Hex
+	}
+	lg.Counts = len(m.Counts) > 0
 	return lg
+}
+
+// present keeps the legend items whose class the map draws.
+func present(drawn map[string]bool, items []legendItem) []legendItem {
+	var out []legendItem
+	for _, it := range items {
+		if drawn[it.Class] {
+			out = append(out, it)
+		}
+	}
+	return out
 }
 
 // ductRows lists the fill of every duct that holds cable on a span of limited capacity:

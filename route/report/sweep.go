@@ -22,6 +22,7 @@ type SweepOptions struct {
 }
 
 type sweepCell struct {
+	Num  bool // in a numeric column: never wrapped
 	Text string
 	Sort string // the value the table sorts by: a number for numeric columns, "" for blank
 	Link string // a relative link (the scenario's report), or ""
@@ -30,6 +31,20 @@ type sweepCell struct {
 type sweepCol struct {
 	Name string
 	Num  bool
+}
+
+// Head is the column's name with a line-break opportunity after each dot, underscore and
+// hyphen, so that a long override key (design.slack_loop_structure_m) wraps in a narrow
+// printed column instead of widening the table past the page.
+func (c sweepCol) Head() template.HTML {
+	var p page
+	for _, r := range c.Name {
+		p.w(t(string(r)))
+		if r == '.' || r == '_' || r == '-' {
+			p.w("<wbr>")
+		}
+	}
+	return p.html()
 }
 
 type sweepRow struct {
@@ -73,6 +88,7 @@ type sweepView struct {
 	Rows       []sweepRow
 	Plot       scatter
 	Cheapest   string
+	DemoPrices int // scenarios priced by the invented demo price book
 }
 
 // Sweep renders a sweep's comparison as one self-contained HTML page: the table of every
@@ -136,7 +152,14 @@ func sweepViewOf(c *sweep.Comparison, opt SweepOptions) *sweepView {
 		if j.Pareto {
 			v.Pareto++
 		}
-		v.Rows = append(v.Rows, sweepRowOf(j, c.Keys))
+		if j.DemoPrices {
+			v.DemoPrices++
+		}
+		row := sweepRowOf(j, c.Keys)
+		for i := range row.Cells {
+			row.Cells[i].Num = v.Cols[i].Num
+		}
+		v.Rows = append(v.Rows, row)
 	}
 	if cheapest != nil {
 		v.Cheapest = fmt.Sprintf("#%d %s at %s %s", cheapest.Index, cheapest.ID, money(cheapest.TotalCents), c.Currency)
@@ -167,7 +190,9 @@ func sweepRowOf(j *sweep.Judged, keys []string) sweepRow {
 	}
 	id := sweepCell{Text: j.ID, Sort: j.ID}
 	if planned {
-		id.Link = j.ID + "/" // the folder: it holds report.html only when the sweep ran with --full
+		// The scenario's report when its folder holds one (a sweep run with --full), else
+		// the folder; relative, so that it works wherever the folders are moved together.
+		id.Link = j.Dir + "/" + j.Report
 	}
 	row.Cells = append(row.Cells, intc(j.Index, true), id, text(j.Case))
 	for _, k := range keys {

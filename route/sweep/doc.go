@@ -36,7 +36,7 @@
 // order. Index is the 0-based position in that order.
 //
 // Each scenario has an id (see ScenarioID): a readable slug and eight hexadecimal digits of
-// the SHA-256 of its canonical override list, such as adm-10g-prices-low-allow-new-trench-6d7bb237
+// the SHA-256 of its canonical override list, such as adm-10g-prices-low-allow_new_trench-6d7bb237
 // or all-diverse-bcb3603c. A scenario keeps its id when the sweep gains values or cases, so
 // a grown sweep resumes; a new axis changes the overrides, so the ids, of the whole product.
 //

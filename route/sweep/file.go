@@ -5,6 +5,7 @@ import (
 	"encoding/hex"
 	"errors"
 	"fmt"
+	"math"
 	"path/filepath"
 	"reflect"
 	"regexp"
@@ -354,9 +355,10 @@ func (f *File) Keys() []string {
 const IDLen = 8
 
 // maxSlug is the longest readable part of a scenario id, in bytes.
-const maxSlug = 48
+const maxSlug = 64
 
-var nonSlug = regexp.MustCompile(`[^a-z0-9]+`)
+// nonSlug matches what a slug never holds: anything but a-z, 0-9, dot, underscore and hyphen.
+var nonSlug = regexp.MustCompile(`[^a-z0-9._-]+`)
 
 // ScenarioID returns the stable id of a scenario whose overrides come from a sweep file (a
 // case's, or one value of each axis), used as its folder name: a readable slug,
@@ -364,33 +366,59 @@ var nonSlug = regexp.MustCompile(`[^a-z0-9]+`)
 // list (one "key=value" line per override, sorted by key, each value decoded into the plan
 // setting's type and written as JSON: so "10G" and 10G, or 850000 and 850000.00, agree, and
 // the order overrides are written in does not matter). The slug is the case's name, or for a
-// scenario of the product its values joined by hyphens: text as written, numbers as decoded,
-// file names without folder and extension, true as the key's last part ("allow-new-trench"),
-// false as "no-" and that part, null as that part and "-default"; lower-cased, anything but a-z and 0-9 turned into
-// hyphens, at most 48 bytes. Renaming a case changes only the slug.
+// scenario of the product its values joined by hyphens: text as written, a number after the
+// last part of its key ("snap_m-0.5", "loss_margin_db-1e-7", "budget-850000": see
+// numberSlug), file names without folder and extension, true as the key's last part
+// ("allow_new_trench"), false as "no-" and that part, null as that part and "-default";
+// lower-cased, anything but a-z, 0-9, dot, underscore and hyphen turned into hyphens, no
+// dot, underscore or hyphen first, at most maxSlug bytes of whole parts. The names are safe
+// folder names on Linux, macOS and Windows (ASCII, no reserved characters, never a reserved
+// device name before a dot, never ending in a dot or space) and unique even on file systems
+// that ignore case, since the hash tells scenarios apart. Renaming a case changes only the slug.
 func ScenarioID(caseName string, set []Override) string {
 	sum := sha256.Sum256([]byte(canonical(set)))
-	slug := caseName
+	parts := []string{caseName}
 	if caseName == "" {
-		parts := make([]string, len(set))
+		parts = make([]string, len(set))
 		for i, o := range set {
 			parts[i] = o.slugPart()
 		}
-		slug = strings.Join(parts, "-")
 	}
-	slug = strings.Trim(nonSlug.ReplaceAllString(strings.ToLower(slug), "-"), "-")
-	if len(slug) > maxSlug {
+	slug := ""
+	for _, p := range parts {
+		p = strings.Trim(nonSlug.ReplaceAllString(strings.ToLower(p), "-"), "-")
+		if p == "" {
+			continue
+		}
+		if slug != "" && len(slug)+1+len(p) > maxSlug {
+			break // whole parts only: a number cut short would mislead
+		}
+		if slug != "" {
+			slug += "-"
+		}
+		slug += p
+	}
+	if len(slug) > maxSlug { // one part longer than the limit: a long case name
 		slug = slug[:maxSlug]
 		if i := strings.LastIndexByte(slug, '-'); i > maxSlug/2 {
 			slug = slug[:i]
 		}
-		slug = strings.TrimRight(slug, "-")
 	}
+	slug = strings.TrimLeft(strings.TrimRight(slug, "-"), "._-")
 	if slug == "" {
 		slug = "scenario"
 	}
+	if dev, _, _ := strings.Cut(slug, "."); windowsDevice[dev] {
+		slug = "scenario-" + slug // "con.5" is a device on Windows whatever follows the dot
+	}
 	return slug + "-" + hex.EncodeToString(sum[:])[:IDLen]
 }
+
+// windowsDevice holds the names Windows reserves for devices, which no folder may take even
+// with an extension (Microsoft, "Naming Files, Paths, and Namespaces", from memory).
+var windowsDevice = map[string]bool{"con": true, "prn": true, "aux": true, "nul": true,
+	"com1": true, "com2": true, "com3": true, "com4": true, "com5": true, "com6": true, "com7": true, "com8": true, "com9": true,
+	"lpt1": true, "lpt2": true, "lpt3": true, "lpt4": true, "lpt5": true, "lpt6": true, "lpt7": true, "lpt8": true, "lpt9": true}
 
 func (o Override) slugPart() string {
 	leaf := o.Key[strings.LastIndexByte(o.Key, '.')+1:]
@@ -410,9 +438,34 @@ func (o Override) slugPart() string {
 		return "no-" + leaf
 	case o.set.typ == reflect.TypeOf(plan.Money(0)):
 		c, _ := strconv.ParseInt(o.canon, 10, 64)
-		return strings.TrimSuffix(money(c), ".00")
+		return leaf + "-" + strings.ReplaceAll(strings.TrimSuffix(money(c), ".00"), ",", "")
 	case o.set.typ.Kind() != reflect.String:
-		return o.canon // numbers as decoded: 1.0 and 1 agree
+		return leaf + "-" + numberSlug(o.canon) // numbers as decoded: 1.0 and 1 agree
 	}
 	return o.Value
+}
+
+// numberSlug writes a decoded number (JSON) for a folder name: plain decimals from 0.0001 to
+// below 10^15 ("0.5", "0.001", "30"), else a power of ten without plus sign or padding zeros
+// ("1e-7", "2.5e21"); a negative number starts "minus" (a hyphen separates parts).
+func numberSlug(canon string) string {
+	v, err := strconv.ParseFloat(canon, 64)
+	if err != nil || math.IsInf(v, 0) || math.IsNaN(v) {
+		return canon
+	}
+	sign := ""
+	if v < 0 {
+		sign, v = "minus", -v
+	}
+	if v == 0 || (v >= 1e-4 && v < 1e15) {
+		return sign + strconv.FormatFloat(v, 'f', -1, 64)
+	}
+	mant, exp, _ := strings.Cut(strconv.FormatFloat(v, 'e', -1, 64), "e")
+	exp = strings.TrimPrefix(exp, "+")
+	neg := strings.HasPrefix(exp, "-")
+	exp = strings.TrimLeft(strings.TrimPrefix(exp, "-"), "0")
+	if neg {
+		exp = "-" + exp
+	}
+	return sign + mant + "e" + exp
 }

@@ -8,6 +8,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
 
@@ -64,11 +65,11 @@ func TestExpandOrderAndIDs(t *testing.T) {
 	// sorted "key=JSON value" lines.
 	canon := "defaults.rate=\"10G\"\ndesign.allow_new_trench=true\nhub=\"ADM\"\nprices=\"prices-low.yaml\"\n"
 	sum := sha256.Sum256([]byte(canon))
-	wantID := "adm-10g-prices-low-allow-new-trench-" + hex.EncodeToString(sum[:])[:8]
+	wantID := "adm-10g-prices-low-allow_new_trench-" + hex.EncodeToString(sum[:])[:8]
 	if sc[0].ID != wantID {
 		t.Errorf("id: got %q, want %q", sc[0].ID, wantID)
 	}
-	if !strings.HasPrefix(sc[1].ID, "adm-10g-prices-low-no-allow-new-trench-") {
+	if !strings.HasPrefix(sc[1].ID, "adm-10g-prices-low-no-allow_new_trench-") {
 		t.Errorf("id of a false value: got %q", sc[1].ID)
 	}
 	if !strings.HasPrefix(sc[16].ID, "all-diverse-") {
@@ -338,5 +339,62 @@ func TestParseShard(t *testing.T) {
 	}
 	if len(mine) != 3 || mine[0] != 1 || mine[1] != 4 || mine[2] != 7 {
 		t.Errorf("shard 2/3 of 9: got %v, want [1 4 7]", mine)
+	}
+}
+
+// TestFolderNamesOfNumbers checks the folder names of numeric axes: readable (the key's last
+// part and the number as a person writes it), stable (a fixed id for a fixed value), unique
+// across values that used to share a readable part (0.05 and 0-5-style joins of several
+// axes; 1e21 and 1e-21 were both 1e-21) and across letter case, and safe as folder names on Linux, macOS and Windows: only
+// a-z, 0-9, dot, underscore and hyphen (the POSIX portable file name character set, IEEE Std
+// 1003.1 §3.282, without upper case), no leading dot or hyphen, no trailing dot, no device
+// name before a dot (Microsoft, "Naming Files, Paths, and Namespaces", from memory).
+func TestFolderNamesOfNumbers(t *testing.T) {
+	t.Parallel()
+	f := parseInline(t, "vary: {design.loss_margin_db: [0, 0.5, 0.05, 5, 50, 1e-3, 0.0001, 1e-7, 12.25, 3.0e-5], design.reel_m: [4000, 1e5], budget: [850000]}")
+	portable := regexp.MustCompile(`^[a-z0-9][a-z0-9._-]*[a-z0-9]$`)
+	slugs, ids := map[string]string{}, map[string]bool{}
+	for _, s := range f.Scenarios() {
+		if !portable.MatchString(s.ID) || len(s.ID) > maxSlug+1+IDLen {
+			t.Errorf("%s: not a portable folder name of at most %d bytes", s.ID, maxSlug+1+IDLen)
+		}
+		if dev, _, _ := strings.Cut(s.ID, "."); windowsDevice[dev] {
+			t.Errorf("%s: a Windows device name", s.ID)
+		}
+		slug := s.ID[:len(s.ID)-IDLen-1]
+		if other, ok := slugs[slug]; ok {
+			t.Errorf("%s and %s share the readable part %s", other, s.ID, slug)
+		}
+		slugs[slug] = s.ID
+		ids[strings.ToLower(s.ID)] = true
+	}
+	if len(ids) != len(f.Scenarios()) || len(ids) != 20 {
+		t.Errorf("%d distinct ids ignoring case for %d scenarios, want 20", len(ids), len(f.Scenarios()))
+	}
+	for _, want := range []string{"loss_margin_db-0-reel_m-4000-budget-850000-", "loss_margin_db-0.5-reel_m-4000-budget-850000-", "loss_margin_db-0.05-reel_m-4000-budget-850000-",
+		"loss_margin_db-0.001-reel_m-4000-budget-850000-", "loss_margin_db-0.0001-reel_m-4000-budget-850000-", "loss_margin_db-1e-7-reel_m-4000-budget-850000-",
+		"loss_margin_db-3e-5-reel_m-4000-budget-850000-", "loss_margin_db-12.25-reel_m-100000-budget-850000-"} {
+		found := false
+		for slug := range slugs {
+			found = found || slug+"-" == want
+		}
+		if !found {
+			t.Errorf("no folder named %s…", want)
+		}
+	}
+	// Stable: the id of one value is pinned (the hash part from GNU coreutils:
+	// printf 'design.loss_margin_db=0.5\n' | sha256sum, first 8 digits).
+	if one := parseInline(t, "vary: {design.loss_margin_db: [0.5]}").Scenarios()[0].ID; one != "loss_margin_db-0.5-0d2df158" {
+		t.Errorf("id of 0.5: got %s, want loss_margin_db-0.5-0d2df158", one)
+	}
+	for _, tc := range []struct{ canon, want string }{
+		{"0.5", "0.5"}, {"1e-07", "1e-7"}, {"1e+21", "1e21"}, {"2.5e+21", "2.5e21"}, {"-0.25", "minus0.25"}, {"100000", "100000"}, {"0", "0"},
+	} {
+		if got := numberSlug(tc.canon); got != tc.want {
+			t.Errorf("numberSlug(%s): got %s, want %s", tc.canon, got, tc.want)
+		}
+	}
+	if id := ScenarioID("con.5", nil); strings.HasPrefix(id, "con.") {
+		t.Errorf("case con.5: id %s is a Windows device name", id)
 	}
 }

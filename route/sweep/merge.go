@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"net/url"
 	"os"
 	"path/filepath"
 	"reflect"
@@ -91,7 +92,7 @@ func Merge(dirs []string, out string, more CompareFunc) (*Report, error) {
 	if len(errs) > 0 {
 		return nil, fmt.Errorf("%w: %s", ErrMerge, strings.Join(errs, "\n"))
 	}
-	files, err := renderRun(*head, rows, Shard{}, more)
+	files, err := renderRun(*head, rows, Shard{}, more, scenarioDirs(out, rows, where))
 	if err != nil {
 		return nil, err
 	}
@@ -133,4 +134,33 @@ func missingText(missing []int) string {
 		parts = append(parts, fmt.Sprintf("#%d", m))
 	}
 	return strings.Join(parts, ", ") + " (scenario #k is in shard k mod n + 1 of n)"
+}
+
+// scenarioDirs returns each scenario's folder relative to out, where the comparison goes:
+// the folder of the rows file that held its row, joined with its id, in slashes, each part
+// escaped for a URL. When a relative path cannot be made (another volume), the absolute path
+// is used as a file URL.
+func scenarioDirs(out string, rows []Row, where []string) []string {
+	absOut, err := filepath.Abs(out)
+	if err != nil {
+		return nil
+	}
+	dirs := make([]string, len(rows))
+	for i, r := range rows {
+		shard, err := filepath.Abs(filepath.Dir(where[i]))
+		if err != nil {
+			continue
+		}
+		rel, err := filepath.Rel(absOut, shard)
+		if err != nil {
+			dirs[i] = (&url.URL{Scheme: "file", Path: filepath.ToSlash(filepath.Join(shard, r.ID))}).String()
+			continue
+		}
+		var parts []string
+		for _, p := range strings.Split(filepath.ToSlash(filepath.Join(rel, r.ID)), "/") {
+			parts = append(parts, url.PathEscape(p))
+		}
+		dirs[i] = strings.Join(parts, "/")
+	}
+	return dirs
 }

@@ -3,6 +3,7 @@ package sweep
 import (
 	"bytes"
 	"fmt"
+	"net/url"
 	"path/filepath"
 	"spanwright/route/fileset"
 )
@@ -17,6 +18,10 @@ type Judged struct {
 	// Pareto is set on an ok scenario that no other ok scenario dominates on total cost
 	// (lower is better), worst loss margin (higher) and links missing a diverse route (fewer).
 	Pareto bool
+	// Dir is the scenario's folder relative to the comparison's folder, with slashes and
+	// each part escaped for a URL: the id for a sweep's own comparison, and for a merge into
+	// another folder the way from there to the shard's folder ("../shard-1/<id>").
+	Dir string
 }
 
 // Comparison is a finished sweep's comparison: its override keys (the columns that tell
@@ -33,7 +38,7 @@ func Judge(rows []Row, keys []string) *Comparison {
 	js := judge(rows)
 	c := &Comparison{Keys: append([]string(nil), keys...), Rows: make([]Judged, len(js)), Currency: currencyOf(rows)}
 	for i, j := range js {
-		c.Rows[i] = Judged{Row: *j.Row, Rank: j.rank, Pareto: j.pareto}
+		c.Rows[i] = Judged{Row: *j.Row, Rank: j.rank, Pareto: j.pareto, Dir: url.PathEscape(j.ID)}
 	}
 	return c
 }

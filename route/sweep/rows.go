@@ -48,6 +48,12 @@ type Row struct {
 	// Note says what of the base plan the scenario left out, and why (output.Summary.Notes,
 	// joined by "; "), e.g. a link entry for the building the scenario makes the hub.
 	Note string `json:"note,omitempty"`
+	// Report is the name of the scenario's HTML report in its folder (report.html, written
+	// with Options.Extra), "" when it has none: the comparison links it.
+	Report string `json:"report,omitempty"`
+	// DemoPrices is set when the invented demo price book built into spanwright priced the
+	// scenario (output.Summary.DemoPrices).
+	DemoPrices bool `json:"demo_prices,omitempty"`
 }
 
 func newRow(sc Scenario) Row {
@@ -74,6 +80,7 @@ func (r *Row) fill(s output.Summary) {
 	r.MediaMix = strings.Join(media, " ")
 	r.Warnings = s.WarningCount
 	r.Note = strings.Join(s.Notes, "; ")
+	r.DemoPrices = s.DemoPrices != ""
 	r.Status = StatusOK
 	if s.Infeasible > 0 {
 		r.Status = StatusInfeasible

@@ -105,6 +105,7 @@ type Report struct {
 	Infeasible int // planned with some legs infeasible
 	Failed     int
 	Failures   []Row    // the failed scenarios' rows, in index order
+	DemoPrices int      // scenarios priced by the invented demo price book
 	Files      []string // files written besides the scenario folders, sorted
 }
 
@@ -123,6 +124,9 @@ func (r *Report) Err() error {
 }
 
 func (r *Report) count(row Row) {
+	if row.DemoPrices {
+		r.DemoPrices++
+	}
 	switch row.Status {
 	case StatusOK:
 		r.OK++
@@ -162,7 +166,7 @@ func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
 	h := rowsHeader{Format: RowsFormat, Sweep: sweepHash(f), Scenarios: len(f.Scenarios()), Keys: f.Keys(), Shard: opt.Shard.String()}
 	// Refuse before planning anything when the comparison would replace the sweep file or
 	// the base plan (the files the scenarios read are checked again when it is written).
-	names, err := renderRun(h, nil, opt.Shard, opt.Compare)
+	names, err := renderRun(h, nil, opt.Shard, opt.Compare, nil)
 	if err != nil {
 		return nil, err
 	}
@@ -182,7 +186,7 @@ func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
 	if err != nil {
 		return rep, err
 	}
-	files, err := renderRun(h, rows, opt.Shard, opt.Compare)
+	files, err := renderRun(h, rows, opt.Shard, opt.Compare, nil)
 	if err != nil {
 		return rep, err
 	}
@@ -199,7 +203,10 @@ func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
 }
 
 // renderRun renders the rows file and, for a whole sweep, the comparison and more's files.
-func renderRun(h rowsHeader, rows []Row, sh Shard, more CompareFunc) ([]fileset.OutputFile, error) {
+//
+// dirs, when not nil, holds each scenario's folder relative to the comparison's folder
+// (Judged.Dir), by index; nil when every folder is beside the comparison.
+func renderRun(h rowsHeader, rows []Row, sh Shard, more CompareFunc, dirs []string) ([]fileset.OutputFile, error) {
 	data, err := encodeRows(h, rows)
 	if err != nil {
 		return nil, err
@@ -218,6 +225,11 @@ func renderRun(h rowsHeader, rows []Row, sh Shard, more CompareFunc) ([]fileset.
 	c, err := judgeEncoded(data)
 	if err != nil {
 		return nil, err
+	}
+	for i := range c.Rows {
+		if i < len(dirs) && dirs[i] != "" {
+			c.Rows[i].Dir = dirs[i]
+		}
 	}
 	extra, err := more(c)
 	if err != nil {
@@ -304,7 +316,8 @@ func newRunner(f *File, opt Options) (*runner, error) {
 	return r, nil
 }
 
-// tmpPrefix starts the name of a scenario folder being written; the id follows, then a dot.
+// tmpPrefix starts the name of a scenario folder being written; the id follows (it may hold
+// dots: snap_m-0.5), then a dot and os.MkdirTemp's digits.
 const tmpPrefix = ".tmp-"
 
 // clean removes what a sweep stopped by force (power cut, kill -9) left of this run's
@@ -324,8 +337,9 @@ func (r *runner) clean(mine []Scenario) error {
 		if !e.IsDir() || !strings.HasPrefix(n, tmpPrefix) {
 			continue
 		}
-		id, _, ok := strings.Cut(strings.TrimPrefix(n, tmpPrefix), ".")
-		if ok && ids[id] {
+		rest := strings.TrimPrefix(n, tmpPrefix)
+		dot := strings.LastIndexByte(rest, '.')
+		if dot > 0 && ids[rest[:dot]] {
 			if err := os.RemoveAll(filepath.Join(r.out, n)); err != nil {
 				return err
 			}
@@ -465,6 +479,7 @@ func (r *runner) scenario(ctx context.Context, sc Scenario) (outcome, error) {
 	if r.opt.Resume && p.CampusDatabase == "" {
 		if s, ok := r.resumable(dir, inputs); ok {
 			out.row.fill(s)
+			out.row.Report = htmlIn(dir)
 			r.mu.Lock()
 			r.skipped++
 			r.mu.Unlock()
@@ -512,6 +527,11 @@ func (r *runner) scenario(ctx context.Context, sc Scenario) (outcome, error) {
 		seen[o.Name] = true
 	}
 	out.row.fill(output.Summarize(res))
+	for _, o := range files {
+		if strings.HasSuffix(o.Name, ".html") && out.row.Report == "" {
+			out.row.Report = o.Name
+		}
+	}
 	out.files = files
 	return out, nil
 }
@@ -641,6 +661,20 @@ func (r *runner) resumable(dir string, inputs []byte) (output.Summary, bool) {
 		return s, false
 	}
 	return s, true
+}
+
+// htmlIn names the first HTML file (by name) in a scenario folder, "" when there is none.
+func htmlIn(dir string) string {
+	ents, err := os.ReadDir(dir)
+	if err != nil {
+		return ""
+	}
+	for _, e := range ents { // sorted by name
+		if e.Type().IsRegular() && strings.HasSuffix(e.Name(), ".html") {
+			return e.Name()
+		}
+	}
+	return ""
 }
 
 // publish writes a scenario folder whole: the files go into a temporary folder with

@@ -303,6 +303,12 @@ func TestPlanReport(t *testing.T) {
 		}
 	}
 	t.Logf("demo report printed: %d A3 pages; see %s", len(boxes), pdf)
+	pages := pdfPages(t, pdf)
+	firstPageFull(t, "demo report", pages)
+	inside(t, "demo report", pages)
+	if n := checkOnTop(t, "demo report", filepath.Join(dir, "report.html")); n == 0 {
+		t.Error("demo report: no works or carrier path probed (the demo bores one span and uses tunnels)")
+	}
 }
 
 func TestSweepReport(t *testing.T) {

@@ -1,0 +1,94 @@
+package main
+
+import (
+	"fmt"
+	"slices"
+	"strings"
+)
+
+// Exit statuses. 130 and 143 (stopped by a signal) are set by main.
+const (
+	exitOK          = 0
+	exitInternal    = 1 // a bug in spanwright
+	exitInvalid     = 2 // invalid input or usage, an output that would overwrite an input
+	exitInfeasible  = 3 // finished, but some links are infeasible
+	exitEnvironment = 4 // the machine refused: an output could not be written, a file not read
+	exitInterrupt   = 130
+	exitTerminate   = 143
+)
+
+// exitStatus is one row of the table of exit statuses: the status, what it means, and the
+// commands that can return it ("" for spanwright with no command or with --version).
+type exitStatus struct {
+	Code     int
+	Meaning  string
+	Commands []string
+}
+
+// allCommands are the commands, in the order help lists them.
+var allCommands = []string{"check", "plan", "demo", "media", "sweep", "merge", "starter"}
+
+// exitStatuses is the one table of exit statuses: every help text and the README's table
+// ("Exit status") are made from it (TestExitTableInREADME keeps the README in step).
+var exitStatuses = []exitStatus{
+	{exitOK, "done (for sweep and merge: every scenario planned with all legs feasible)", append([]string{""}, allCommands...)},
+	{exitInternal, "internal error: a bug in spanwright, please report it", append([]string{""}, allCommands...)},
+	{exitInvalid, "invalid input or usage: an unknown command or flag, an invalid file (every problem listed at once), " +
+		"an output that would replace an input or an existing file, an --out folder holding a sub-folder; " +
+		"for sweep and merge a scenario that failed, for merge rows that do not make one whole sweep; running the same command again cannot succeed",
+		append([]string{""}, allCommands...)},
+	{exitInfeasible, "finished, but some links are infeasible (listed with their reasons; everything else is written)",
+		[]string{"check", "plan", "sweep", "merge"}},
+	{exitEnvironment, "the machine refused: an output could not be written (disk full, quota, no permission, " +
+		"read-only file system, --out names a file) or an input not read (no permission, I/O error); " +
+		"the same command may succeed once that is put right",
+		[]string{"check", "plan", "demo", "media", "sweep", "merge", "starter"}},
+	{exitInterrupt, "stopped by Ctrl-C (SIGINT), nothing left half-written", []string{"check", "plan", "demo", "sweep"}},
+	{exitTerminate, "stopped by SIGTERM, nothing left half-written", []string{"check", "plan", "demo", "sweep"}},
+}
+
+// helpWidth is the widest line of the EXIT STATUS sections, in bytes.
+const helpWidth = 92
+
+// exitHelp is the EXIT STATUS section of a command's help ("" for the program's own): every
+// status the command can return, one per line.
+func exitHelp(command string) string {
+	var b strings.Builder
+	b.WriteString("EXIT STATUS\n")
+	for _, s := range exitStatuses {
+		if command != "" && !slices.Contains(s.Commands, command) {
+			continue
+		}
+		line := fmt.Sprintf("   %3d ", s.Code)
+		for _, w := range strings.Fields(s.Meaning) {
+			if len(line)+1+len(w) > helpWidth {
+				b.WriteString(line + "\n")
+				line = strings.Repeat(" ", 7)
+			}
+			line += " " + w
+		}
+		b.WriteString(line + "\n")
+	}
+	return strings.TrimRight(b.String(), "\n")
+}
+
+// exitTableMarkdown is the table of exit statuses as the README prints it.
+func exitTableMarkdown() string {
+	var b strings.Builder
+	b.WriteString("| status | meaning | commands |\n|---|---|---|\n")
+	for _, s := range exitStatuses {
+		cmds := make([]string, 0, len(s.Commands))
+		for _, c := range s.Commands {
+			if c == "" {
+				c = "spanwright"
+			}
+			cmds = append(cmds, "`"+c+"`")
+		}
+		who := strings.Join(cmds, ", ")
+		if len(s.Commands) == len(allCommands)+1 {
+			who = "all"
+		}
+		fmt.Fprintf(&b, "| %d | %s | %s |\n", s.Code, strings.ReplaceAll(s.Meaning, "--out", "`--out`"), who)
+	}
+	return b.String()
+}
