@@ -180,7 +180,7 @@ func bomXLSX(ctx context.Context, r *route.Result, opt WriteOptions) ([]byte, er
 		workbook.Column{Name: "highest pull", Unit: u.force}, workbook.Column{Name: "rated pull", Unit: u.force},
 		workbook.Column{Name: "model cost", Unit: cur}, workbook.Column{Name: "feasible"}, workbook.Column{Name: "note"},
 		workbook.Column{Name: "from entrance"}, workbook.Column{Name: "to entrance"}, workbook.Column{Name: "buildings crossed"},
-		workbook.Column{Name: "turns at added handholes"})
+		workbook.Column{Name: "turns at added handholes"}, workbook.Column{Name: "reason code"})
 	links.Filter = true
 	bom := wb.AddSheet("bill of materials", workbook.Column{Name: "category"}, workbook.Column{Name: "item"},
 		workbook.Column{Name: "unit"}, workbook.Column{Name: "quantity"}, workbook.Column{Name: "unit price", Unit: cur},
@@ -349,7 +349,7 @@ func bomXLSX(ctx context.Context, r *route.Result, opt WriteOptions) ([]byte, er
 		if !l.Feasible {
 			cells = append(cells, make([]workbook.Cell, 16)...)
 			cells = append(cells, workbook.Cents(l.Cost.TotalCents()), workbook.Bool(false), workbook.Text(InUnits(opt, l.Reason)))
-			links.Append(append(cells, passage(l)...)...)
+			links.Append(append(cells, passage(r, l)...)...)
 			continue
 		}
 		hi := hiOf[i]
@@ -360,7 +360,7 @@ func bomXLSX(ctx context.Context, r *route.Result, opt WriteOptions) ([]byte, er
 			workbook.Int(int64(t.Structures)), workbook.Number(u.m(t.LengthM), 1), workbook.Int(int64(t.Reels)),
 			workbook.Int(int64(t.Joins)), workbook.Int(int64(pullsOf[i])), workbook.Number(u.n(hi), 1), workbook.Number(u.n(rated), 1),
 			workbook.Cents(l.Cost.TotalCents()), workbook.Bool(true), workbook.Text(InUnits(opt, l.Reason)))
-		links.Append(append(cells, passage(l)...)...)
+		links.Append(append(cells, passage(r, l)...)...)
 	}
 	for _, p := range r.Estimate.Pulls {
 		l := &r.Legs[p.Leg]
@@ -403,9 +403,9 @@ func bomXLSX(ctx context.Context, r *route.Result, opt WriteOptions) ([]byte, er
 }
 
 // passage is the links sheet's last cells of a leg, as text: links.csv's last columns (see
-// passageText).
-func passage(l *routing.Leg) []workbook.Cell {
-	texts := passageText(l)
+// passageText), then the reason code.
+func passage(r *route.Result, l *routing.Leg) []workbook.Cell {
+	texts := append(passageText(l, travelOf(r.Site.Net, l)), l.ReasonCode)
 	cells := make([]workbook.Cell, len(texts))
 	for i, x := range texts {
 		cells[i] = workbook.Text(x)
