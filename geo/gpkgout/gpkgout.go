@@ -56,10 +56,13 @@ type Column struct {
 	Description string
 }
 
+// Geometry is a feature's geometry: an orb.Point, orb.LineString or orb.MultiPolygon.
+type Geometry = orb.Geometry
+
 // Feature is one row of a layer: its geometry (orb.Point, orb.LineString or
 // orb.MultiPolygon as the layer's type says; nil for none) and one value per column.
 type Feature struct {
-	Geometry orb.Geometry
+	Geometry Geometry
 	Values   []any
 }
 

@@ -37,9 +37,11 @@ const FtPerM = 1 / 0.3048
 
 // WriteOptions says how outputs are rendered.
 type WriteOptions struct {
-	Units string // UnitsMetric (default) or UnitsImperial: CSV, XLSX and stdout only; JSON and GeoJSON stay metric
+	Units string // UnitsMetric (default) or UnitsImperial: CSV, XLSX and stdout only; JSON, GeoJSON and the GeoPackage stay metric
 	// SkipWorkbook leaves bom.xlsx out, for runs of many scenarios where the CSV is enough.
 	SkipWorkbook bool
+	// SkipGeoPackage leaves plan.gpkg out, for the same runs: routes.geojson has the legs.
+	SkipGeoPackage bool
 }
 
 func (o WriteOptions) imperial() bool { return o.Units == UnitsImperial }
@@ -77,6 +79,16 @@ func Files(ctx context.Context, r *route.Result, opt WriteOptions) ([]fileset.Ou
 	}
 	if err := ctx.Err(); err != nil {
 		return nil, err
+	}
+	if !opt.SkipGeoPackage {
+		gp, err := planGeoPackage(ctx, r)
+		if ctx.Err() != nil {
+			return nil, ctx.Err()
+		}
+		if err != nil {
+			return nil, fmt.Errorf("%s: %w", geoPackageFileName, err)
+		}
+		files = append(files, fileset.OutputFile{Name: geoPackageFileName, Data: gp})
 	}
 	if r.Estimate == nil || r.Estimate.BOM == nil {
 		return files, nil
