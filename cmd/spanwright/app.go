@@ -114,7 +114,7 @@ func newApp() *cli.App {
 var unitsFlag = &cli.StringFlag{
 	Name:  "units",
 	Value: output.UnitsMetric,
-	Usage: "units for CSV and printed lengths: metric or imperial (JSON and GeoJSON stay metric)",
+	Usage: "units for CSV and printed lengths: metric or imperial (JSON, GeoJSON and plan.gpkg stay metric)",
 }
 
 // maxInputFlag sets the size cap of every input file; check, plan and sweep take it.
