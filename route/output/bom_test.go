@@ -284,13 +284,7 @@ func TestImperialEdges(t *testing.T) {
 // quantities, unit prices and markup percentages with Python's decimal arithmetic.
 func TestBOMWorkbookOpenpyxl(t *testing.T) {
 	t.Parallel()
-	py := "/usr/bin/python3"
-	if err := exec.Command(py, "-c", "import openpyxl").Run(); err != nil {
-		if os.Getenv("CI") == "true" {
-			t.Fatalf("python3-openpyxl is needed in CI: %v", err)
-		}
-		t.Skip("python3-openpyxl not installed (apt-get install python3-openpyxl)")
-	}
+	py := testplan.Openpyxl(t)
 	r := testplan.DemoResult(t)
 	files, err := Files(context.Background(), r, WriteOptions{})
 	if err != nil {
@@ -379,13 +373,7 @@ func TestFromCellFits(t *testing.T) {
 // and budget check are the estimate's own, to the cent.
 func TestBOMWorkbookCachedOpenpyxl(t *testing.T) {
 	t.Parallel()
-	py := "/usr/bin/python3"
-	if err := exec.Command(py, "-c", "import openpyxl").Run(); err != nil {
-		if os.Getenv("CI") == "true" {
-			t.Fatalf("python3-openpyxl is needed in CI: %v", err)
-		}
-		t.Skip("python3-openpyxl not installed (apt-get install python3-openpyxl)")
-	}
+	py := testplan.Openpyxl(t)
 	const script = `import sys, openpyxl
 f = openpyxl.load_workbook(sys.argv[1])
 v = openpyxl.load_workbook(sys.argv[1], data_only=True)

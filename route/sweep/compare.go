@@ -359,17 +359,9 @@ func compareXLSX(js []judged, keys []string, cur string) ([]byte, error) {
 	}
 	// The totals are formulas over the scenarios sheet, each with its result worked out here
 	// from the same rows as its cached value.
-	var ok, inf, failed, pareto int
-	maxRank := 0
+	n := tallyOf(js)
+	maxRank, pareto := 0, 0
 	for _, j := range js {
-		switch j.Status {
-		case StatusOK:
-			ok++
-		case StatusInfeasible:
-			inf++
-		case StatusFailed:
-			failed++
-		}
 		if j.Status == StatusOK && j.pareto {
 			pareto++
 		}
@@ -388,9 +380,9 @@ func compareXLSX(js []judged, keys []string, cur string) ([]byte, error) {
 	tot := wb.AddSheet("totals", workbook.Column{Name: "what"}, workbook.Column{Name: "value"})
 	status := col("status")
 	tot.Append(workbook.Text("scenarios"), workbook.Formula("COUNTA("+sh.Range(1)+")", float64(len(js)), 0))
-	tot.Append(workbook.Text("ok"), workbook.Formula("COUNTIF("+status+",\"ok\")", float64(ok), 0))
-	tot.Append(workbook.Text("with infeasible legs"), workbook.Formula("COUNTIF("+status+",\"infeasible\")", float64(inf), 0))
-	tot.Append(workbook.Text("failed"), workbook.Formula("COUNTIF("+status+",\"failed\")", float64(failed), 0))
+	tot.Append(workbook.Text("ok"), workbook.Formula("COUNTIF("+status+",\"ok\")", float64(n.ok), 0))
+	tot.Append(workbook.Text("with infeasible legs"), workbook.Formula("COUNTIF("+status+",\"infeasible\")", float64(n.infeasible), 0))
+	tot.Append(workbook.Text("failed"), workbook.Formula("COUNTIF("+status+",\"failed\")", float64(n.failed), 0))
 	tot.Append(workbook.Text("pareto optimal"), workbook.Formula("COUNTIF("+col("pareto")+",TRUE)", float64(pareto), 0))
 	// The cheapest and dearest ok scenarios are those ranked first and last; INDEX and MATCH
 	// work in every spreadsheet program, unlike the newer conditional MIN and MAX.
@@ -446,25 +438,35 @@ func textOrBlank(s string) workbook.Cell {
 	return workbook.Text(s)
 }
 
-func compareMD(js []judged, keys []string, cur string) []byte {
-	var b bytes.Buffer
-	var ok, inf, failed int
-	var front []string
+// tally counts the scenarios by status: ok, with infeasible legs, failed (any other).
+type tally struct{ ok, infeasible, failed int }
+
+func tallyOf(js []judged) tally {
+	var n tally
 	for _, j := range js {
 		switch j.Status {
 		case StatusOK:
-			ok++
+			n.ok++
 		case StatusInfeasible:
-			inf++
+			n.infeasible++
 		default:
-			failed++
+			n.failed++
 		}
+	}
+	return n
+}
+
+func compareMD(js []judged, keys []string, cur string) []byte {
+	var b bytes.Buffer
+	var front []string
+	for _, j := range js {
 		if j.pareto {
 			front = append(front, escape.MarkdownCode(j.ID))
 		}
 	}
+	n := tallyOf(js)
 	fmt.Fprintf(&b, "# Sweep comparison\n\n")
-	fmt.Fprintf(&b, "%d scenarios: %d ok, %d with infeasible legs, %d failed.", len(js), ok, inf, failed)
+	fmt.Fprintf(&b, "%d scenarios: %d ok, %d with infeasible legs, %d failed.", len(js), n.ok, n.infeasible, n.failed)
 	if cur != "" {
 		fmt.Fprintf(&b, " Money in %s.", escape.Markdown(cur))
 	}
@@ -518,7 +520,7 @@ func compareMD(js []judged, keys []string, cur string) []byte {
 			}
 		}
 	}
-	if failed > 0 {
+	if n.failed > 0 {
 		fmt.Fprintf(&b, "\n## Failed scenarios\n\n")
 		for _, j := range js {
 			if j.Status == StatusFailed {

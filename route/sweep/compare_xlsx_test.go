@@ -6,6 +6,8 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"spanwright/route/internal/testplan"
 )
 
 // TestCompareWorkbookOpenpyxl reads compare.xlsx with openpyxl (Debian python3-openpyxl), a
@@ -17,13 +19,7 @@ import (
 // 1 failed, 1 Pareto optimal, lowest and highest cost of an ok scenario 1234.56.
 func TestCompareWorkbookOpenpyxl(t *testing.T) {
 	t.Parallel()
-	py := "/usr/bin/python3"
-	if err := exec.Command(py, "-c", "import openpyxl").Run(); err != nil {
-		if os.Getenv("CI") == "true" {
-			t.Fatalf("python3-openpyxl is needed in CI: %v", err)
-		}
-		t.Skip("python3-openpyxl not installed (apt-get install python3-openpyxl)")
-	}
+	py := testplan.Openpyxl(t)
 	keys := []string{"design.slack_m", "defaults.strands", "design.allow_new_trench", "hub", "prices"}
 	rows := []Row{
 		{Index: 0, ID: "s0", Set: [][2]string{{"design.slack_m", "0.5"}, {"defaults.strands", "6"}, {"design.allow_new_trench", "true"}, {"hub", "ADM"}, {"prices", "prices-low.yaml"}},
