@@ -52,7 +52,7 @@ func TestLegLineFromTo(t *testing.T) {
 		name string
 		r    func(t *testing.T) *route.Result
 	}{
-		{"demo", testplan.DemoResult},
+		{"demo", func(t *testing.T) *route.Result { return testplan.DemoResult(t) }},
 		{"passage", func(t *testing.T) *route.Result { return testplan.PassageResult(t, nil, "A", "B", "C", "HH-1") }},
 	} {
 		t.Run(tc.name, func(t *testing.T) {

@@ -81,7 +81,7 @@ func BOMLine(b *media.BOM, prefix string) (media.BOMLine, bool) {
 	return media.BOMLine{}, false
 }
 
-func DemoResult(t *testing.T) *route.Result {
+func DemoResult(t testing.TB) *route.Result {
 	t.Helper()
 	s, p := testsite.Demo(t)
 	eng, err := plan.Engine(p)
