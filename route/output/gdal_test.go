@@ -222,7 +222,7 @@ func wktEnds(t *testing.T, wkt string) ([2]float64, [2]float64) {
 }
 
 // TestGeoPackageSameBytes: the same result gives the same plan.gpkg, byte for byte (the
-// cmd golden test holds the demo's file to the bytes committed).
+// cmd golden test holds the demo's file to the bytes committed), in either unit system.
 func TestGeoPackageSameBytes(t *testing.T) {
 	t.Parallel()
 	r := testplan.DemoResult(t)
@@ -236,6 +236,14 @@ func TestGeoPackageSameBytes(t *testing.T) {
 	}
 	if !bytes.Equal(a, b) {
 		t.Error("two renderings of plan.gpkg differ")
+	}
+	// Data for programs: metric whatever the units of the files for people.
+	files, err := Files(context.Background(), r, WriteOptions{Units: UnitsImperial, SkipWorkbook: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !bytes.Equal(testplan.FileOf(t, files, "plan.gpkg"), a) {
+		t.Error("plan.gpkg differs with --units imperial")
 	}
 }
 
