@@ -166,3 +166,26 @@ func TestNetworkLookupsByHand(t *testing.T) {
 		t.Errorf("AccessOf: got %v %v", a, ok)
 	}
 }
+
+// TestRounded: every coordinate to CoordDecimals (1e-7°, about 1 cm), as the GeoJSON writer
+// rounds them, in a copy: the geometry given is not changed.
+func TestRounded(t *testing.T) {
+	t.Parallel()
+	p := orb.Point{-3.72852934999, 52.35200005}
+	want := orb.Point{-3.7285293, 52.3520001}
+	if got := Rounded(p); got != want {
+		t.Errorf("point: %v, want %v", got, want)
+	}
+	ls := orb.LineString{p, {0.000000049, -0.00000004}}
+	got := Rounded(ls).(orb.LineString)
+	if got[0] != want || got[1] != (orb.Point{0, 0}) || ls[0] != p {
+		t.Errorf("line: %v (given %v)", got, ls)
+	}
+	mp := orb.MultiPolygon{{{p, {1, 1}, {1, 0}, p}}}
+	if gm := Rounded(mp).(orb.MultiPolygon); gm[0][0][0] != want || gm[0][0][3] != want || mp[0][0][0] != p {
+		t.Errorf("multipolygon: %v", gm)
+	}
+	if got := Rounded(orb.Collection{p}); got.(orb.Collection)[0] != p {
+		t.Errorf("collection: %v, want it as given", got)
+	}
+}
