@@ -189,3 +189,28 @@ func TestRounded(t *testing.T) {
 		t.Errorf("collection: %v, want it as given", got)
 	}
 }
+
+// TestPointAt: a point along a span of two segments is on the segment its offset falls in,
+// its distance from the span's start the offset (DistanceM, Karney's geodesic, within 1 mm
+// on these 100 m segments), and the ends are clamped.
+func TestPointAt(t *testing.T) {
+	t.Parallel()
+	a, b, c := orb.Point{-3.73, 52.35}, orb.Point{-3.7285, 52.35}, orb.Point{-3.7285, 52.351}
+	s := &Span{Line: orb.LineString{a, b, c}}
+	segs := s.SegmentsM()
+	for _, off := range []float64{0, 10, segs[0] - 1, segs[0], segs[0] + 5, segs[0] + segs[1]} {
+		p := s.PointAt(off)
+		var along float64
+		if off <= segs[0] {
+			along = DistanceM(a, p)
+		} else {
+			along = segs[0] + DistanceM(b, p)
+		}
+		if diff := along - off; diff > 0.001 || diff < -0.001 {
+			t.Errorf("PointAt(%.3f) = %v, %.4f m along", off, p, along)
+		}
+	}
+	if s.PointAt(-1) != a || s.PointAt(1e6) != c {
+		t.Errorf("ends not clamped: %v %v", s.PointAt(-1), s.PointAt(1e6))
+	}
+}

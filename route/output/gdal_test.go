@@ -3,6 +3,7 @@ package output
 import (
 	"bytes"
 	"context"
+	"fmt"
 	"math"
 	"os"
 	"os/exec"
@@ -14,6 +15,7 @@ import (
 
 	"spanwright/route"
 	"spanwright/route/internal/testplan"
+	"spanwright/route/plan"
 	"spanwright/route/routing"
 )
 
@@ -109,7 +111,7 @@ func TestGeoPackageGDAL(t *testing.T) {
 		LayerLegs:         "Line String " + strconv.Itoa(len(r.Legs)) + " EPSG:4326",
 		LayerSpans:        "Line String " + strconv.Itoa(len(r.Fill)) + " EPSG:4326",
 		LayerConstruction: "Line String " + strconv.Itoa(works) + " EPSG:4326",
-		LayerStructures:   "Point " + strconv.Itoa(len(r.Handholes)) + " EPSG:4326",
+		LayerStructures:   "Point " + strconv.Itoa(len(r.Handholes)+r.Estimate.AddedPullPoints) + " EPSG:4326",
 		LayerBuildings:    "Multi Polygon " + strconv.Itoa(len(r.Site.Campus.Buildings)) + " EPSG:4326",
 		LayerEntrances:    "Point " + strconv.Itoa(len(r.Site.Net.Entrances)) + " EPSG:4326",
 	}
@@ -163,8 +165,9 @@ func TestGeoPackageGDAL(t *testing.T) {
 	if got := num(LayerSpans, "SUM(cables)"); int(got) != cables {
 		t.Errorf("spans: %v cables, want %d", got, cables)
 	}
-	if got := num(LayerStructures, "COUNT(*)"); int(got) != s.TurnHandholes+len(r.Estimate.Construction.NewJunctions) {
-		t.Errorf("added structures: %v, want %d turns and %d joins", got, s.TurnHandholes, len(r.Estimate.Construction.NewJunctions))
+	if got := num(LayerStructures, "COUNT(*)"); int(got) != s.TurnHandholes+len(r.Estimate.Construction.NewJunctions)+s.AddedPullPoints {
+		t.Errorf("added structures: %v, want %d turns, %d joins and %d pull points", got, s.TurnHandholes,
+			len(r.Estimate.Construction.NewJunctions), s.AddedPullPoints)
 	}
 
 	// Each leg runs from its from building's entrance to its to building's.
@@ -315,4 +318,60 @@ func feasibleLegs(r *route.Result) []*routing.Leg {
 		}
 	}
 	return out
+}
+
+// TestGeoPackagePullPoints: with at most 100 m between pull points the pull campus needs
+// intermediate pull points (TestPullPointAdded in route/estimate); plan.gpkg's added
+// structures hold one row per point the bill counts (estimate.Estimate.AddedPullPoints), read
+// back with ogrinfo, each where the pull sections name it ("new handhole on S at X m", X
+// from the span's from end) and on its span.
+func TestGeoPackagePullPoints(t *testing.T) {
+	t.Parallel()
+	r, err := testplan.PullSolve(t, 100, 2, func(p *plan.Plan) { p.Design.PullMaxM = 100 })
+	if err != nil {
+		t.Fatal(err)
+	}
+	n := r.Estimate.AddedPullPoints
+	if n == 0 {
+		t.Fatal("no pull point added")
+	}
+	named := map[string]bool{}
+	for _, p := range r.Estimate.Pulls {
+		if p.AddedFrom {
+			named[p.From] = true
+		}
+		if p.AddedTo {
+			named[p.To] = true
+		}
+	}
+	pts := addedPullPoints(r)
+	if len(pts) != n {
+		t.Fatalf("%d pull points placed, the bill counts %d: %+v", len(pts), n, pts)
+	}
+	for _, p := range pts {
+		label := p.junction
+		if p.span != "" {
+			label = fmt.Sprintf("new handhole on %s at %.1f m", p.span, p.offM)
+			sp, _ := r.Site.Net.Span(p.span)
+			if p.offM <= 0 || p.offM >= sp.LengthM {
+				t.Errorf("%s: off the span of %.1f m", label, sp.LengthM)
+			}
+		}
+		if !named[label] || len(p.links) == 0 {
+			t.Errorf("pull point %q (links %q) is not one the pull sections name: %v", label, p.links, named)
+		}
+	}
+	data, err := planGeoPackage(context.Background(), r)
+	if err != nil {
+		t.Fatal(err)
+	}
+	path := writeTemp(t, "plan.gpkg", data)
+	rows := ogrRows(t, path, "SELECT COUNT(*) AS n, SUM(at_m) AS m FROM added_structures WHERE purpose = 'pull'")
+	var sum float64
+	for _, p := range pts {
+		sum += round1(p.offM)
+	}
+	if len(rows) != 1 || rows[0]["n"] != strconv.Itoa(n) || rows[0]["m"] != strconv.FormatFloat(sum, 'f', -1, 64) {
+		t.Errorf("ogrinfo: %v, want %d pull points, %g m from their spans' ends in all", rows, n, sum)
+	}
 }

@@ -1,7 +1,9 @@
 package output
 
 import (
+	"cmp"
 	"context"
+	"math"
 	"fmt"
 	"slices"
 	"strings"
@@ -35,6 +37,7 @@ const (
 const (
 	PurposeJoin = "join" // where a pathway the plan opens joins the network
 	PurposeTurn = "turn" // where a route turns from one pathway into another
+	PurposePull = "pull" // an intermediate pull point the pulling plan adds (estimate.Estimate.AddedPullPoints)
 )
 
 // gpkgLayers are plan.gpkg's layers, their columns and what each holds: the README's table
@@ -85,10 +88,12 @@ func gpkgLayers() []gpkgout.Layer {
 				c("length_m", re, "length of new work, metres"), c("added_ducts", in, "ducts added beside an existing span (0 for opened)"),
 			}},
 		{Name: LayerStructures, Geometry: gpkgout.Point,
-			Description: "handholes the plan adds at junctions without a structure",
+			Description: "handholes the plan adds: at junctions without a structure, and pull points on spans",
 			Columns: []gpkgout.Column{
-				c("junction", tx, "junction id"), c("purpose", tx, "join (an opened pathway joins there) or turn (a route turns between pathways)"),
-				c("links_text", tx, "links whose legs turn there, joined by |"),
+				c("junction", tx, "junction id; none for a pull point on a span"),
+				c("span", tx, "span id of a pull point on a span"), c("at_m", re, "its distance from the span's from end, metres"),
+				c("purpose", tx, "join (an opened pathway joins there), turn (a route turns between pathways) or pull (the pulling plan needs a pull point)"),
+				c("links_text", tx, "links whose legs turn or are pulled there, joined by |"),
 			}},
 		{Name: LayerBuildings, Geometry: gpkgout.MultiPolygon,
 			Description: "every building of the campus",
@@ -243,7 +248,7 @@ func planGeoPackage(ctx context.Context, r *route.Result) ([]byte, error) {
 		add(LayerConstruction, sp.Line, sp.ID, sp.PathwayID, w.kind, method, surface, round1(sp.LengthM), w.added)
 	}
 
-	// Handholes the plan adds.
+	// Handholes the plan adds: where routes join or turn, then the pulling plan's.
 	hs := slices.Clone(r.Handholes)
 	slices.SortStableFunc(hs, func(a, b routing.Handhole) int { return strings.Compare(a.Junction, b.Junction) })
 	for _, h := range hs {
@@ -255,7 +260,22 @@ func planGeoPackage(ctx context.Context, r *route.Result) ([]byte, error) {
 		if h.Joins {
 			purpose = PurposeJoin
 		}
-		add(LayerStructures, j.Point, h.Junction, purpose, ListText(turnLinks[h.Junction]))
+		add(LayerStructures, j.Point, h.Junction, nil, nil, purpose, ListText(turnLinks[h.Junction]))
+	}
+	for _, p := range addedPullPoints(r) {
+		if p.junction != "" {
+			j, ok := net.Junction(p.junction)
+			if !ok {
+				return nil, fmt.Errorf("pull point at %s: not a junction of the network", p.junction)
+			}
+			add(LayerStructures, j.Point, p.junction, nil, nil, PurposePull, ListText(p.links))
+			continue
+		}
+		sp, ok := net.Span(p.span)
+		if !ok {
+			return nil, fmt.Errorf("pull point on %s: not a span of the network", p.span)
+		}
+		add(LayerStructures, sp.PointAt(p.offM), nil, p.span, round1(p.offM), PurposePull, ListText(p.links))
 	}
 
 	// Buildings and their entrances.
@@ -287,4 +307,92 @@ func planGeoPackage(ctx context.Context, r *route.Result) ([]byte, error) {
 		return nil, err
 	}
 	return gpkgout.Bytes(ctx, layers)
+}
+
+// pullPoint is a handhole the pulling plan adds: at a junction without a structure, or on a
+// span offM metres from its From end; links are the links whose pulls end there.
+type pullPoint struct {
+	junction, span string
+	offM           float64
+	links          []string
+}
+
+// addedPullPoints places the intermediate pull points of the estimate's pulls (the ends of
+// sections marked added), each once, as the bill counts them (estimate.Estimate.
+// AddedPullPoints: by junction, or by span and whole metre), sorted by junction, then span and
+// offset. A pull section's StartM is along the leg's spans from its served end (the router's
+// order, routing.Leg.Steps).
+func addedPullPoints(r *route.Result) []pullPoint {
+	if r.Estimate == nil {
+		return nil
+	}
+	type key struct {
+		junction, span string
+		m              float64
+	}
+	byKey := map[key]*pullPoint{}
+	var keys []key
+	for _, p := range r.Estimate.Pulls {
+		l := &r.Legs[p.Leg]
+		juncs := r.Site.JunctionsOf(l.Steps)
+		cum := make([]float64, len(l.Steps)+1)
+		spans := make([]geoSpan, len(l.Steps))
+		for j, st := range l.Steps {
+			sp, _ := r.Site.Net.Span(st.SpanID)
+			spans[j] = geoSpan{id: sp.ID, lengthM: sp.LengthM}
+			cum[j+1] = cum[j] + sp.LengthM
+		}
+		for _, end := range []struct {
+			added bool
+			x     float64
+		}{{p.AddedFrom, p.StartM}, {p.AddedTo, p.StartM + p.LengthM}} {
+			if !end.added || len(spans) == 0 {
+				continue
+			}
+			var k key
+			pp := pullPoint{}
+			if j := slices.IndexFunc(cum, func(c float64) bool { return math.Abs(end.x-c) < 0.01 }); j > 0 && j < len(cum)-1 {
+				k, pp.junction = key{junction: juncs[j]}, juncs[j]
+			} else if j < 0 {
+				q, _ := slices.BinarySearch(cum, end.x)
+				q = min(max(q-1, 0), len(spans)-1)
+				off := end.x - cum[q]
+				if l.Steps[q].Reverse {
+					off = spans[q].lengthM - off
+				}
+				k, pp.span, pp.offM = key{span: spans[q].id, m: math.Round(off)}, spans[q].id, off
+			} else {
+				continue // a building: never an added point
+			}
+			at, ok := byKey[k]
+			if !ok {
+				at = &pp
+				byKey[k] = at
+				keys = append(keys, k)
+			}
+			if !slices.Contains(at.links, l.Link.ID) {
+				at.links = append(at.links, l.Link.ID)
+			}
+		}
+	}
+	slices.SortFunc(keys, func(a, b key) int {
+		if c := strings.Compare(a.junction, b.junction); c != 0 {
+			return c
+		}
+		if c := strings.Compare(a.span, b.span); c != 0 {
+			return c
+		}
+		return cmp.Compare(a.m, b.m)
+	})
+	out := make([]pullPoint, len(keys))
+	for i, k := range keys {
+		out[i] = *byKey[k]
+	}
+	return out
+}
+
+// geoSpan is what addedPullPoints needs of a span.
+type geoSpan struct {
+	id      string
+	lengthM float64
 }
