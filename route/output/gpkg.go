@@ -3,8 +3,8 @@ package output
 import (
 	"cmp"
 	"context"
-	"math"
 	"fmt"
+	"math"
 	"slices"
 	"strings"
 
