@@ -146,11 +146,6 @@ func planGeoPackage(ctx context.Context, r *route.Result) ([]byte, error) {
 	spanLinks, turnLinks := map[string][]string{}, map[string][]string{}
 	type ent struct{ building, id string }
 	entLinks := map[ent][]string{}
-	addOnce := func(m map[string][]string, k, link string) {
-		if !slices.Contains(m[k], link) {
-			m[k] = append(m[k], link)
-		}
-	}
 	for i := range r.Legs {
 		if err := ctxio.StopEvery(ctx, i); err != nil {
 			return nil, err
@@ -173,9 +168,7 @@ func planGeoPackage(ctx context.Context, r *route.Result) ([]byte, error) {
 				addOnce(turnLinks, j, l.Link.ID)
 			}
 			for _, e := range []ent{{l.Link.From, l.EntranceFrom}, {l.Link.To, l.EntranceTo}} {
-				if !slices.Contains(entLinks[e], l.Link.ID) {
-					entLinks[e] = append(entLinks[e], l.Link.ID)
-				}
+				addOnce(entLinks, e, l.Link.ID)
 			}
 		}
 		w, worst := l.WorstLoss()
@@ -204,6 +197,10 @@ func planGeoPackage(ctx context.Context, r *route.Result) ([]byte, error) {
 			fills[f.Span] = a
 		}
 	}
+	opened := map[string]bool{}
+	for _, id := range r.Opened {
+		opened[id] = true
+	}
 	for _, f := range r.Fill {
 		sp, ok := net.Span(f.Span)
 		if !ok {
@@ -212,7 +209,7 @@ func planGeoPackage(ctx context.Context, r *route.Result) ([]byte, error) {
 		a := fills[f.Span]
 		add(LayerSpans, sp.Line, sp.ID, sp.PathwayID, sp.Type, sp.Status, round1(sp.LengthM), f.Cables, f.Ducts, f.AddedDucts,
 			f.Limited, optional(round1(a.pct), a.any), optional(a.limit, a.any), optional(a.ok, a.any),
-			slices.Contains(r.Opened, sp.ID), ListText(spanLinks[sp.ID]))
+			opened[sp.ID], ListText(spanLinks[sp.ID]))
 	}
 
 	// New construction: opened spans, then added ducts, as the estimate counts them.
@@ -309,6 +306,14 @@ func planGeoPackage(ctx context.Context, r *route.Result) ([]byte, error) {
 	return gpkgout.Bytes(ctx, layers)
 }
 
+// addOnce appends link to m[k] unless it is there already. Legs come in link order
+// (route.Result.Legs), a link's legs one after the other, so only the last one is looked at.
+func addOnce[K comparable](m map[K][]string, k K, link string) {
+	if n := len(m[k]); n == 0 || m[k][n-1] != link {
+		m[k] = append(m[k], link)
+	}
+}
+
 // pullPoint is a handhole the pulling plan adds: at a junction without a structure, or on a
 // span offM metres from its From end; links are the links whose pulls end there.
 type pullPoint struct {
@@ -370,8 +375,8 @@ func addedPullPoints(r *route.Result) []pullPoint {
 				byKey[k] = at
 				keys = append(keys, k)
 			}
-			if !slices.Contains(at.links, l.Link.ID) {
-				at.links = append(at.links, l.Link.ID)
+			if n := len(at.links); n == 0 || at.links[n-1] != l.Link.ID {
+				at.links = append(at.links, l.Link.ID) // pulls come in leg order, a link's legs together
 			}
 		}
 	}
