@@ -85,3 +85,11 @@ func ListText(ids []string) string {
 	}
 	return strings.Join(parts, ListSep)
 }
+
+// LegLists is a leg's pathways, the buildings it passes through and the junctions where it
+// turns at an added handhole, each in the order of LegRoute's line (from Link.From to
+// Link.To), as every file of this package lists them; for writers elsewhere (the report).
+func LegLists(net *geo.Network, l *routing.Leg) (pathways, crosses, turns []string) {
+	t := travelOf(net, l)
+	return t.pathways, t.crosses, t.turns
+}
