@@ -143,3 +143,16 @@ func TestListText(t *testing.T) {
 		}
 	}
 }
+
+// TestLegLists: the exported lists are those every file of the package writes, in the line's
+// order: the leg from A to C turns at HH-1, then J0002 (TestLegLineFromTo checks that order
+// against the geometry).
+func TestLegLists(t *testing.T) {
+	t.Parallel()
+	r := testplan.PassageResult(t, nil, "A", "B", "C", "HH-1")
+	_, l := testplan.LegOf(t, r, "A-C")
+	p, c, tu := LegLists(r.Site.Net, l)
+	if tr := travelOf(r.Site.Net, l); !slices.Equal(p, tr.pathways) || !slices.Equal(c, []string{"B"}) || !slices.Equal(tu, []string{"HH-1", "J0002"}) {
+		t.Errorf("LegLists: %q %q %q", p, c, tu)
+	}
+}
