@@ -19,6 +19,7 @@ var floors = map[string]int{
 	"geo/input":                0,
 	"geo/ctxtest":              0,
 	"geo/crs":                  0,
+	"geo/gpkgout":              0,
 	"media/install":            0,
 	"route/optimize":           0,
 	"route/escape":             0,

@@ -26,8 +26,9 @@ var (
 
 // routeFields are the properties every feature of routes.geojson carries (route.Result's
 // writer); loss columns appear only at the wavelengths the demo's media are tested at.
-var routeFields = []string{"application", "construction", "cost_cents", "from", "leg", "limit_db", "link",
-	"margin_db", "medium", "pathways", "rate", "reason", "riser_m", "route_m", "strands", "to"}
+var routeFields = []string{"application", "construction", "cost_cents", "crosses_text", "from", "leg", "limit_db", "link",
+	"margin_db", "medium", "pathways", "pathways_text", "rate", "reason", "reason_code", "riser_m", "route_m", "strands", "to",
+	"turns_text"}
 
 // feasibleLegs reads the golden summary: one feature is written per feasible leg.
 func feasibleLegs(t *testing.T) int {
@@ -139,7 +140,8 @@ func TestRoutesReadBackOGR(t *testing.T) {
 			t.Errorf("ogrinfo: no field %q; fields %v", k, have)
 		}
 	}
-	for k, want := range map[string]string{"link": "String", "pathways": "StringList", "route_m": "Real", "cost_cents": "Integer"} {
+	for k, want := range map[string]string{"link": "String", "pathways": "StringList", "pathways_text": "String", "reason_code": "String",
+		"route_m": "Real", "cost_cents": "Integer"} {
 		if got := fields[k]; got != want && !(want == "Integer" && got == "Integer64") {
 			t.Errorf("ogrinfo: field %s is %s, want %s", k, got, want)
 		}

@@ -121,6 +121,41 @@ func roundCoord(x float64) float64 {
 	return r
 }
 
+// Rounded returns a copy of g with every coordinate rounded to CoordDecimals, as the writers
+// keep them: an orb.Point, orb.LineString, orb.Polygon or orb.MultiPolygon; any other
+// geometry is returned as it is.
+func Rounded(g orb.Geometry) orb.Geometry {
+	line := func(ls []orb.Point) []orb.Point {
+		out := make([]orb.Point, len(ls))
+		for i, p := range ls {
+			out[i] = roundPoint(p)
+		}
+		return out
+	}
+	poly := func(p orb.Polygon) orb.Polygon {
+		out := make(orb.Polygon, len(p))
+		for i, r := range p {
+			out[i] = orb.Ring(line(r))
+		}
+		return out
+	}
+	switch t := g.(type) {
+	case orb.Point:
+		return roundPoint(t)
+	case orb.LineString:
+		return orb.LineString(line(t))
+	case orb.Polygon:
+		return poly(t)
+	case orb.MultiPolygon:
+		out := make(orb.MultiPolygon, len(t))
+		for i, p := range t {
+			out[i] = poly(p)
+		}
+		return out
+	}
+	return g
+}
+
 func fmtCoordOut(x float64) string {
 	return strconv.FormatFloat(roundCoord(x), 'f', -1, 64)
 }

@@ -166,3 +166,51 @@ func TestNetworkLookupsByHand(t *testing.T) {
 		t.Errorf("AccessOf: got %v %v", a, ok)
 	}
 }
+
+// TestRounded: every coordinate to CoordDecimals (1e-7°, about 1 cm), as the GeoJSON writer
+// rounds them, in a copy: the geometry given is not changed.
+func TestRounded(t *testing.T) {
+	t.Parallel()
+	p := orb.Point{-3.72852934999, 52.35200005}
+	want := orb.Point{-3.7285293, 52.3520001}
+	if got := Rounded(p); got != want {
+		t.Errorf("point: %v, want %v", got, want)
+	}
+	ls := orb.LineString{p, {0.000000049, -0.00000004}}
+	got := Rounded(ls).(orb.LineString)
+	if got[0] != want || got[1] != (orb.Point{0, 0}) || ls[0] != p {
+		t.Errorf("line: %v (given %v)", got, ls)
+	}
+	mp := orb.MultiPolygon{{{p, {1, 1}, {1, 0}, p}}}
+	if gm := Rounded(mp).(orb.MultiPolygon); gm[0][0][0] != want || gm[0][0][3] != want || mp[0][0][0] != p {
+		t.Errorf("multipolygon: %v", gm)
+	}
+	if got := Rounded(orb.Collection{p}); got.(orb.Collection)[0] != p {
+		t.Errorf("collection: %v, want it as given", got)
+	}
+}
+
+// TestPointAt: a point along a span of two segments is on the segment its offset falls in,
+// its distance from the span's start the offset (DistanceM, Karney's geodesic, within 1 mm
+// on these 100 m segments), and the ends are clamped.
+func TestPointAt(t *testing.T) {
+	t.Parallel()
+	a, b, c := orb.Point{-3.73, 52.35}, orb.Point{-3.7285, 52.35}, orb.Point{-3.7285, 52.351}
+	s := &Span{Line: orb.LineString{a, b, c}}
+	segs := s.SegmentsM()
+	for _, off := range []float64{0, 10, segs[0] - 1, segs[0], segs[0] + 5, segs[0] + segs[1]} {
+		p := s.PointAt(off)
+		var along float64
+		if off <= segs[0] {
+			along = DistanceM(a, p)
+		} else {
+			along = segs[0] + DistanceM(b, p)
+		}
+		if diff := along - off; diff > 0.001 || diff < -0.001 {
+			t.Errorf("PointAt(%.3f) = %v, %.4f m along", off, p, along)
+		}
+	}
+	if s.PointAt(-1) != a || s.PointAt(1e6) != c {
+		t.Errorf("ends not clamped: %v %v", s.PointAt(-1), s.PointAt(1e6))
+	}
+}

@@ -611,7 +611,7 @@ func (c Choice) clone() Choice {
 
 func (e *Engine) choose(l Link) Choice {
 	if msg := checkLink(l); msg != "" {
-		return Choice{Reason: fmt.Sprintf("%s: bad facts: %s", linkName(l), msg)}
+		return Choice{Reason: fmt.Sprintf("%s: bad facts: %s", linkName(l), msg), Code: CodeBadFacts}
 	}
 	type spec struct {
 		mi, ai, ki int
@@ -648,7 +648,7 @@ func (e *Engine) choose(l Link) Choice {
 	}
 	if len(all) == 0 {
 		return Choice{Reason: fmt.Sprintf("%s: no application runs at %s; the catalog has %s",
-			linkName(l), FormatRate(l.RateGbps), rateList(e.cat.Rates()))}
+			linkName(l), FormatRate(l.RateGbps), rateList(e.cat.Rates())), Code: CodeNoApplication}
 	}
 	sort.SliceStable(ok, func(i, j int) bool { return better(ok[i], ok[j]) })
 	var ch Choice
@@ -682,9 +682,10 @@ func (e *Engine) choose(l Link) Choice {
 	if win == nil {
 		ch.Reason = fmt.Sprintf("%s: no medium carries %s over %s m: %s", linkName(l), FormatRate(l.RateGbps),
 			formatNum(l.ChannelM()), strings.Join(summary, "; "))
+		ch.Code = CodeNoMedium
 		return ch
 	}
-	ch.Reason = e.reason(l, win, ok)
+	ch.Reason, ch.Code = e.reason(l, win, ok)
 	return ch
 }
 
@@ -781,9 +782,11 @@ func (e *Engine) preferRule(i int) *Rule {
 	panic("media: prefer rule index out of range")
 }
 
-// reason is the one-sentence explanation of a choice.
-func (e *Engine) reason(l Link, win *candidate, ok []*candidate) string {
+// reason is the one-sentence explanation of a choice and its code: CodeOnly, CodeCheapest or
+// CodePreferred.
+func (e *Engine) reason(l Link, win *candidate, ok []*candidate) (string, string) {
 	var b strings.Builder
+	code := CodeOnly
 	fmt.Fprintf(&b, "%s with %s on %s ", win.m.ID, win.a.Name, win.label())
 	media := map[string]bool{}
 	for _, c := range ok {
@@ -793,9 +796,11 @@ func (e *Engine) reason(l Link, win *candidate, ok []*candidate) string {
 		fmt.Fprintf(&b, "is the only feasible medium, at %s %s %s", FormatCents(win.costCents), e.prices.Currency, costCovers)
 	} else {
 		fmt.Fprintf(&b, "is the cheapest of %d feasible media at %s %s %s", len(media), FormatCents(win.costCents), e.prices.Currency, costCovers)
+		code = CodeCheapest
 		for i, p := range win.prefer {
 			if p {
 				fmt.Fprintf(&b, " among those rule %s prefers", e.preferRule(i).ID)
+				code = CodePreferred
 				break
 			}
 		}
@@ -807,7 +812,7 @@ func (e *Engine) reason(l Link, win *candidate, ok []*candidate) string {
 	} else {
 		fmt.Fprintf(&b, ", within its %s m reach", formatNum(win.r.RangeM))
 	}
-	return b.String()
+	return b.String(), code
 }
 
 // feasibleAt reports whether medium mi carries l at channelM metres with some application

@@ -6,6 +6,7 @@ import (
 	"path/filepath"
 	"reflect"
 	"strings"
+	"sync"
 	"testing"
 )
 
@@ -273,8 +274,52 @@ func TestChoose(t *testing.T) {
 			if again := e.Choose(tc.link); !reflect.DeepEqual(again, ch) {
 				t.Errorf("%s: two runs differ", tc.name)
 			}
+			// The code set beside the reason says what the reason's words say.
+			if want := codeOfWords(ch.Reason); ch.Code != want || len(ch.Code) > 10 {
+				t.Errorf("%s: code %q, want %q (at most 10 characters) for %q", tc.name, ch.Code, want, ch.Reason)
+			}
+			codesMu.Lock()
+			codesSeen[ch.Code] = true
+			codesRun++
+			codesMu.Unlock()
 		})
 	}
+	t.Cleanup(func() {
+		if codesRun < len(cases) {
+			return // some cases filtered out by -run
+		}
+		for _, c := range []string{CodeOnly, CodeCheapest, CodePreferred, CodeNoMedium, CodeNoApplication, CodeBadFacts} {
+			if !codesSeen[c] {
+				t.Errorf("no case gives the code %s", c)
+			}
+		}
+	})
+}
+
+var (
+	codesMu   sync.Mutex
+	codesSeen = map[string]bool{}
+	codesRun  int
+)
+
+// codeOfWords is the reason code a reason's words call for, for the test to hold the codes
+// set in the engine to them.
+func codeOfWords(reason string) string {
+	switch {
+	case strings.Contains(reason, ": bad facts: "):
+		return CodeBadFacts
+	case strings.Contains(reason, ": no application runs at "):
+		return CodeNoApplication
+	case strings.Contains(reason, ": no medium carries "):
+		return CodeNoMedium
+	case strings.Contains(reason, " among those rule "):
+		return CodePreferred
+	case strings.Contains(reason, " is the cheapest of "):
+		return CodeCheapest
+	case strings.Contains(reason, " is the only feasible medium"):
+		return CodeOnly
+	}
+	return "?"
 }
 
 func TestChooseConstructions(t *testing.T) {

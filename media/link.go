@@ -98,8 +98,20 @@ type Choice struct {
 	AttenuatorCents int64
 	RepairSplices   int    // repair splices allowed for in the required margin (single-mode outside plant)
 	Reason          string // why this medium, or why no medium fits when !Feasible
+	Code            string // Reason in a short stable code (a Code* constant)
 	Rejected        []Rejection
 }
+
+// Codes of a Choice's Reason: short (at most 10 characters, for a Shapefile column) and
+// stable, so that a reader can sort and filter by them whatever the words of the reason.
+const (
+	CodeOnly          = "ONLY"      // the only feasible medium
+	CodeCheapest      = "CHEAPEST"  // the cheapest of several feasible media
+	CodePreferred     = "PREFERRED" // the cheapest of the media a prefer rule favours
+	CodeNoMedium      = "NO-MEDIUM" // no medium carries the link: every one is rejected by a rule
+	CodeNoApplication = "NO-APP"    // no application runs at the link's rate
+	CodeBadFacts      = "BAD-FACTS" // the link's facts are out of range (a bug upstream)
+)
 
 // AttenuatorQuantity is the bill of materials line for the choice's attenuators, and whether
 // it needs any.

@@ -146,7 +146,7 @@ func runApp(ctx context.Context, app *cli.App, args []string) error {
 var unitsFlag = &cli.StringFlag{
 	Name:  "units",
 	Value: output.UnitsMetric,
-	Usage: "units for CSV and printed lengths: metric or imperial (JSON and GeoJSON stay metric)",
+	Usage: "units for CSV and printed lengths: metric or imperial (JSON, GeoJSON and plan.gpkg stay metric)",
 }
 
 // maxInputFlag sets the size cap of every input file; check, plan and sweep take it.

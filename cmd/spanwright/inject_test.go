@@ -1,6 +1,7 @@
 package main
 
 import (
+	"database/sql"
 	"encoding/csv"
 	"encoding/json"
 	"fmt"
@@ -11,6 +12,8 @@ import (
 	"testing"
 
 	"spanwright/route/workbook"
+
+	_ "modernc.org/sqlite" // reads plan.gpkg back
 )
 
 // Payloads are ids and names an attacker (or an unlucky export) could put in a campus or a
@@ -140,7 +143,7 @@ func TestPayloadPlan(t *testing.T) {
 	links := string(read("links.csv"))
 	for _, want := range []string{
 		`"'=HYPERLINK(""http://e.invalid"",""x"")-+1+2",primary,"'=HYPERLINK(""http://e.invalid"",""x"")",'+1+2,`,
-		",'-2+3,", ",'@SUM(A1),", ",'\tTAB,", "B<U+202E>evil<U+2066>", "<U+001B>[31mRED", ",'-2+32 =cmd|' -C calc'!A01,",
+		",'-2+3,", ",'@SUM(A1),", ",'\tTAB,", "B<U+202E>evil<U+2066>", "<U+001B>[31mRED", ",'=cmd|' -C calc'!A01 -2+32 ",
 	} {
 		if !strings.Contains(links, want) {
 			t.Errorf("links.csv lacks %q:\n%s", want, links)
@@ -220,6 +223,18 @@ func TestPayloadPlan(t *testing.T) {
 	var s struct{ Scenario string }
 	if err := json.Unmarshal(read("summary.json"), &s); err != nil || !strings.Contains(s.Scenario, "\u202E") {
 		t.Errorf("summary.json: scenario %q (%v), want the plan's name exactly", s.Scenario, err)
+	}
+
+	// plan.gpkg is data for programs too: its text columns hold the ids exactly as given,
+	// as SQLite TEXT (a GeoPackage column is never a formula).
+	db, err := sql.Open("sqlite", "file:"+filepath.Join(out, "plan.gpkg")+"?mode=ro")
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer db.Close()
+	var n int
+	if err := db.QueryRow(`SELECT COUNT(*) FROM buildings WHERE building IN (?, ?)`, idHyperlink, "B\u202Eevil\u2066").Scan(&n); err != nil || n != 2 {
+		t.Errorf("plan.gpkg: %d buildings with the payload ids exactly (%v), want 2", n, err)
 	}
 }
 

@@ -29,8 +29,8 @@ func sweepCommand() *cli.Command {
 		ArgsUsage: "SWEEP.yaml",
 		Description: "Plans the base plan of the sweep file once per scenario (the product of its vary\n" +
 			"axes, then each of its cases), writes each scenario's outputs to OUT/<scenario id>/\n" +
-			"(plan.yaml, routes.geojson, links.csv, summary.json, bom.csv; with --full also bom.xlsx\n" +
-			"and report.html) and the comparison to OUT/compare.csv, compare.xlsx, compare.md and\n" +
+			"(plan.yaml, routes.geojson, links.csv, summary.json, bom.csv; with --full also bom.xlsx,\n" +
+			"plan.gpkg and report.html) and the comparison to OUT/compare.csv, compare.xlsx, compare.md and\n" +
 			"compare.html (sortable table, cost-against-margin plot). `spanwright plan` on a\n" +
 			"scenario's plan.yaml writes its full set later.\n\n" +
 			"With --shard i/n only the scenarios whose index mod n is i-1 are planned and their\n" +
@@ -43,7 +43,7 @@ func sweepCommand() *cli.Command {
 			&cli.BoolFlag{Name: "resume", Usage: "skip scenarios whose outputs exist and whose inputs are unchanged"},
 			&cli.StringFlag{Name: "shard", Usage: "plan part `i/n` of the sweep only: the scenarios whose index mod n is i-1"},
 			&cli.BoolFlag{Name: "quiet", Usage: "print no progress on stderr"},
-			&cli.BoolFlag{Name: "full", Usage: "also write bom.xlsx and report.html in every scenario folder (slower)"},
+			&cli.BoolFlag{Name: "full", Usage: "also write bom.xlsx, plan.gpkg and report.html in every scenario folder (slower)"},
 			unitsFlag,
 			maxInputFlag,
 			campusDBFlag,
@@ -90,6 +90,7 @@ func sweepOpts(c *cli.Context) (sweepOptions, error) {
 	o := sweepOptions{file: c.Args().First(), out: c.Path("out"), jobs: c.Int("jobs"),
 		resume: c.Bool("resume"), quiet: c.Bool("quiet"), full: c.Bool("full"), write: w, campusDB: c.String(campusDBFlag.Name)}
 	o.write.SkipWorkbook = !o.full
+	o.write.SkipGeoPackage = !o.full
 	if o.maxBytes, err = maxInputBytes(c); err != nil {
 		return sweepOptions{}, err
 	}

@@ -144,6 +144,15 @@ func bomCSV(r *route.Result, opt WriteOptions) ([]byte, error) {
 	return buf.Bytes(), nil
 }
 
+// money is an amount in integer cents in currency units, as a workbook's money cells hold it.
+func money(cents int64) float64 { return float64(cents) / 100 }
+
+// roundHalfAway rounds x to d decimals, halves away from zero, as a spreadsheet's ROUND does.
+func roundHalfAway(x float64, d int) float64 {
+	p := math.Pow(10, float64(d))
+	return math.Round(x*p) / p
+}
+
 // units of the workbook's physical columns.
 type xlUnits struct {
 	length, force, swbp, diameter string
@@ -180,7 +189,7 @@ func bomXLSX(ctx context.Context, r *route.Result, opt WriteOptions) ([]byte, er
 		workbook.Column{Name: "highest pull", Unit: u.force}, workbook.Column{Name: "rated pull", Unit: u.force},
 		workbook.Column{Name: "model cost", Unit: cur}, workbook.Column{Name: "feasible"}, workbook.Column{Name: "note"},
 		workbook.Column{Name: "from entrance"}, workbook.Column{Name: "to entrance"}, workbook.Column{Name: "buildings crossed"},
-		workbook.Column{Name: "turns at added handholes"})
+		workbook.Column{Name: "turns at added handholes"}, workbook.Column{Name: "reason code"})
 	links.Filter = true
 	bom := wb.AddSheet("bill of materials", workbook.Column{Name: "category"}, workbook.Column{Name: "item"},
 		workbook.Column{Name: "unit"}, workbook.Column{Name: "quantity"}, workbook.Column{Name: "unit price", Unit: cur},
@@ -241,10 +250,10 @@ func bomXLSX(ctx context.Context, r *route.Result, opt WriteOptions) ([]byte, er
 			for _, c := range l.PercentOf {
 				sums = append(sums, fmt.Sprintf("SUMIF(%s,%q,%s)", catAbove, c, extAbove))
 			}
-			unitPrice = workbook.Formula(fmt.Sprintf("ROUND((%s)*%s/100,2)", strings.Join(sums, "+"), pct(l.PercentBP)), 2)
+			unitPrice = workbook.Formula(fmt.Sprintf("ROUND((%s)*%s/100,2)", strings.Join(sums, "+"), pct(l.PercentBP)), price, 2)
 		}
 		bom.Append(workbook.Text(l.Category), workbook.Text(describe(opt, l)), workbook.Text(unit), workbook.Number(qty, dq),
-			unitPrice, workbook.Formula(fmt.Sprintf("ROUND(%s*%s,2)", workbook.Ref(3, row), workbook.Ref(4, row)), 2),
+			unitPrice, workbook.Formula(fmt.Sprintf("ROUND(%s*%s,2)", workbook.Ref(3, row), workbook.Ref(4, row)), money(l.ExtendedCents), 2),
 			workbook.Text(fromCell(l)))
 	}
 	bom.Append()
@@ -252,7 +261,7 @@ func bomXLSX(ctx context.Context, r *route.Result, opt WriteOptions) ([]byte, er
 	for _, s := range b.Subtotal {
 		subRow[s.Category] = bom.Rows() + 2
 		bom.Append(workbook.Text(rowSubtotal), workbook.Text(s.Category), workbook.Blank(), workbook.Blank(), workbook.Blank(),
-			workbook.Formula(fmt.Sprintf("SUMIF(%s,%q,%s)", catRange, s.Category, extRange), 2))
+			workbook.Formula(fmt.Sprintf("SUMIF(%s,%q,%s)", catRange, s.Category, extRange), money(s.Cents), 2))
 	}
 	allRow := bom.Rows() + 2
 	var parts []string
@@ -260,16 +269,19 @@ func bomXLSX(ctx context.Context, r *route.Result, opt WriteOptions) ([]byte, er
 		parts = append(parts, workbook.Ref(5, subRow[s.Category]))
 	}
 	bom.Append(workbook.Text(rowSubtotal), workbook.Text("all categories"), workbook.Blank(), workbook.Blank(), workbook.Blank(),
-		workbook.Formula(strings.Join(parts, "+"), 2))
-	markup := func(name, what string, bp int64, base string) int {
+		workbook.Formula(strings.Join(parts, "+"), money(b.SubtotalCents), 2))
+	// A markup row: its percentage, its base (baseCents) and the markup (cents), as Bill
+	// computed them.
+	markup := func(name, what string, bp int64, base string, baseCents, cents int64) int {
 		row := bom.Rows() + 2
 		bom.Append(workbook.Text(name), workbook.Text(what), workbook.Text("%"), workbook.Number(float64(bp)/100, 2),
-			workbook.Formula(base, 2), workbook.Formula(fmt.Sprintf("ROUND(%s*%s/100,2)", workbook.Ref(3, row), workbook.Ref(4, row)), 2))
+			workbook.Formula(base, money(baseCents), 2),
+			workbook.Formula(fmt.Sprintf("ROUND(%s*%s/100,2)", workbook.Ref(3, row), workbook.Ref(4, row)), money(cents), 2))
 		return row
 	}
 	all := workbook.Ref(5, allRow)
-	contRow := markup(rowContingency, "% of the subtotal", b.ContingencyBP, all)
-	overRow := markup(rowOverhead, "% of the subtotal", b.OverheadBP, all)
+	contRow := markup(rowContingency, "% of the subtotal", b.ContingencyBP, all, b.SubtotalCents, b.ContingencyCents)
+	overRow := markup(rowOverhead, "% of the subtotal", b.OverheadBP, all, b.SubtotalCents, b.OverheadCents)
 	cont, over := workbook.Ref(5, contRow), workbook.Ref(5, overRow)
 	taxBase := all + "+" + cont + "+" + over
 	if !taxesAll(b) {
@@ -290,10 +302,10 @@ func bomXLSX(ctx context.Context, r *route.Result, opt WriteOptions) ([]byte, er
 			taxBase = strings.Join(refs, "+")
 		}
 	}
-	taxRow := markup(rowTax, "% of "+taxedWords(b), b.TaxBP, taxBase)
+	taxRow := markup(rowTax, "% of "+taxedWords(b), b.TaxBP, taxBase, b.TaxBaseCents, b.TaxCents)
 	totalRow := bom.Rows() + 2
 	bom.Append(workbook.Text(rowTotal), workbook.Text(b.Label), workbook.Blank(), workbook.Blank(), workbook.Blank(),
-		workbook.Formula(all+"+"+cont+"+"+over+"+"+workbook.Ref(5, taxRow), 2))
+		workbook.Formula(all+"+"+cont+"+"+over+"+"+workbook.Ref(5, taxRow), money(b.TotalCents), 2))
 	ref := func(row int) string { return "'bill of materials'!" + workbook.Ref(5, row) }
 
 	// Summary: figures, then the money as formulas on the bill of materials.
@@ -302,8 +314,8 @@ func bomXLSX(ctx context.Context, r *route.Result, opt WriteOptions) ([]byte, er
 	num := func(fig string, v float64, d int, unit string) {
 		sum.Append(workbook.Text(fig), workbook.Number(v, d), workbook.Text(unit))
 	}
-	money := func(fig, formula string) {
-		sum.Append(workbook.Text(fig), workbook.Formula(formula, 2), workbook.Text(cur))
+	moneyRow := func(fig, formula string, cents int64) {
+		sum.Append(workbook.Text(fig), workbook.Formula(formula, money(cents), 2), workbook.Text(cur))
 	}
 	text("scenario", s.Scenario)
 	text("hub", s.Hub)
@@ -317,19 +329,25 @@ func bomXLSX(ctx context.Context, r *route.Result, opt WriteOptions) ([]byte, er
 	num("pull sections", float64(s.PullSections), 0, "")
 	num("added pull points", float64(s.AddedPullPoints), 0, "")
 	for _, c := range b.Subtotal {
-		money(c.Category, ref(subRow[c.Category]))
+		moneyRow(c.Category, ref(subRow[c.Category]), c.Cents)
 	}
-	money("subtotal", ref(allRow))
-	money("contingency", ref(contRow))
-	money("overhead", ref(overRow))
-	money("tax", ref(taxRow))
+	moneyRow("subtotal", ref(allRow), b.SubtotalCents)
+	moneyRow("contingency", ref(contRow), b.ContingencyCents)
+	moneyRow("overhead", ref(overRow), b.OverheadCents)
+	moneyRow("tax", ref(taxRow), b.TaxCents)
 	totalAt := sum.Rows() + 2
-	money("total", ref(totalRow))
+	moneyRow("total", ref(totalRow), b.TotalCents)
 	budgetAt := sum.Rows() + 2
 	sum.Append(workbook.Text("budget"), workbook.Cents(s.BudgetCents), workbook.Text(cur))
 	tot, bud := workbook.Ref(1, totalAt), workbook.Ref(1, budgetAt)
-	money("over (+) or under (-) budget", fmt.Sprintf("IF(%s>0,%s-%s,0)", bud, tot, bud))
-	sum.Append(workbook.Text("over (+) or under (-) budget"), workbook.Formula(fmt.Sprintf("IF(%s>0,ROUND(100*(%s-%s)/%s,1),0)", bud, tot, bud, bud), 1), workbook.Text("%"))
+	// The budget check as the formulas work it out from the total and the budget cells.
+	overCents, overPct := int64(0), 0.0
+	if s.BudgetCents > 0 {
+		overCents = b.TotalCents - s.BudgetCents
+		overPct = roundHalfAway(100*(money(b.TotalCents)-money(s.BudgetCents))/money(s.BudgetCents), 1)
+	}
+	moneyRow("over (+) or under (-) budget", fmt.Sprintf("IF(%s>0,%s-%s,0)", bud, tot, bud), overCents)
+	sum.Append(workbook.Text("over (+) or under (-) budget"), workbook.Formula(fmt.Sprintf("IF(%s>0,ROUND(100*(%s-%s)/%s,1),0)", bud, tot, bud, bud), overPct, 1), workbook.Text("%"))
 	sum.Append(workbook.Text("model cost (legs, no markups)"), workbook.Cents(s.ModelCents), workbook.Text(cur))
 	num("warnings", float64(s.WarningCount), 0, "")
 
@@ -349,7 +367,7 @@ func bomXLSX(ctx context.Context, r *route.Result, opt WriteOptions) ([]byte, er
 		if !l.Feasible {
 			cells = append(cells, make([]workbook.Cell, 16)...)
 			cells = append(cells, workbook.Cents(l.Cost.TotalCents()), workbook.Bool(false), workbook.Text(InUnits(opt, l.Reason)))
-			links.Append(append(cells, passage(l)...)...)
+			links.Append(append(cells, passage(r, l)...)...)
 			continue
 		}
 		hi := hiOf[i]
@@ -360,7 +378,7 @@ func bomXLSX(ctx context.Context, r *route.Result, opt WriteOptions) ([]byte, er
 			workbook.Int(int64(t.Structures)), workbook.Number(u.m(t.LengthM), 1), workbook.Int(int64(t.Reels)),
 			workbook.Int(int64(t.Joins)), workbook.Int(int64(pullsOf[i])), workbook.Number(u.n(hi), 1), workbook.Number(u.n(rated), 1),
 			workbook.Cents(l.Cost.TotalCents()), workbook.Bool(true), workbook.Text(InUnits(opt, l.Reason)))
-		links.Append(append(cells, passage(l)...)...)
+		links.Append(append(cells, passage(r, l)...)...)
 	}
 	for _, p := range r.Estimate.Pulls {
 		l := &r.Legs[p.Leg]
@@ -403,9 +421,9 @@ func bomXLSX(ctx context.Context, r *route.Result, opt WriteOptions) ([]byte, er
 }
 
 // passage is the links sheet's last cells of a leg, as text: links.csv's last columns (see
-// passageText).
-func passage(l *routing.Leg) []workbook.Cell {
-	texts := passageText(l)
+// passageText), then the reason code.
+func passage(r *route.Result, l *routing.Leg) []workbook.Cell {
+	texts := append(passageText(l, travelOf(r.Site.Net, l)), l.ReasonCode)
 	cells := make([]workbook.Cell, len(texts))
 	for i, x := range texts {
 		cells[i] = workbook.Text(x)

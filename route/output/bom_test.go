@@ -284,13 +284,7 @@ func TestImperialEdges(t *testing.T) {
 // quantities, unit prices and markup percentages with Python's decimal arithmetic.
 func TestBOMWorkbookOpenpyxl(t *testing.T) {
 	t.Parallel()
-	py := "/usr/bin/python3"
-	if err := exec.Command(py, "-c", "import openpyxl").Run(); err != nil {
-		if os.Getenv("CI") == "true" {
-			t.Fatalf("python3-openpyxl is needed in CI: %v", err)
-		}
-		t.Skip("python3-openpyxl not installed (apt-get install python3-openpyxl)")
-	}
+	py := testplan.Openpyxl(t)
 	r := testplan.DemoResult(t)
 	files, err := Files(context.Background(), r, WriteOptions{})
 	if err != nil {
@@ -367,5 +361,137 @@ func TestFromCellFits(t *testing.T) {
 	if _, err := fmt.Sscanf(got[len(head):], "; and %d more", &more); err != nil || kept+more != 5000 ||
 		strings.Split(head, "; ")[kept-1] != l.From[kept-1] {
 		t.Errorf("long: kept %d, %d more (%v), want 5,000 in all, whole sources", kept, more, err)
+	}
+}
+
+// TestBOMWorkbookCachedOpenpyxl reads bom.xlsx with openpyxl's data_only mode (Debian
+// python3-openpyxl), which gives a formula cell's cached value (ECMA-376 Part 1 §18.3.1.96)
+// as pandas and file previewers see it, in both unit systems: every formula cell holds a
+// number; it is what the formula gives when calculated again (excelize's calculation
+// engine, to the cent); and the bill's figures (each line's extended price, a percentage
+// bid item's price, subtotals, markups and their bases, the total) and the summary's money
+// and budget check are the estimate's own, to the cent.
+func TestBOMWorkbookCachedOpenpyxl(t *testing.T) {
+	t.Parallel()
+	py := testplan.Openpyxl(t)
+	const script = `import sys, openpyxl
+f = openpyxl.load_workbook(sys.argv[1])
+v = openpyxl.load_workbook(sys.argv[1], data_only=True)
+for ws in f.worksheets:
+    for row in ws.iter_rows():
+        for c in row:
+            if isinstance(c.value, str) and c.value.startswith("="):
+                x = v[ws.title][c.coordinate].value
+                print("%s\t%s\t%s\t%r" % (ws.title, c.coordinate, type(x).__name__, x))
+`
+	r := testplan.DemoResult(t)
+	b := r.Estimate.BOM
+	s := Summarize(r)
+	for _, opt := range []WriteOptions{{}, {Units: UnitsImperial}} {
+		t.Run("units "+opt.Units, func(t *testing.T) {
+			t.Parallel()
+			files, err := Files(context.Background(), r, WriteOptions{Units: opt.Units, SkipGeoPackage: true})
+			if err != nil {
+				t.Fatal(err)
+			}
+			data := testplan.FileOf(t, files, "bom.xlsx")
+			path := filepath.Join(t.TempDir(), "bom.xlsx")
+			if err := os.WriteFile(path, data, 0o644); err != nil {
+				t.Fatal(err)
+			}
+			out, err := exec.Command(py, "-c", script, path).CombinedOutput()
+			if err != nil {
+				t.Fatalf("openpyxl: %v\n%s", err, out)
+			}
+			x, err := workbook.Open(data)
+			if err != nil {
+				t.Fatal(err)
+			}
+			defer x.Close()
+
+			// The estimate's figures, in cents, by cell.
+			const bill = "bill of materials"
+			want := map[string]int64{}
+			n := len(b.Lines)
+			for i, l := range b.Lines {
+				want[fmt.Sprintf("%s!F%d", bill, i+2)] = l.ExtendedCents
+				if l.PercentOf != nil {
+					want[fmt.Sprintf("%s!E%d", bill, i+2)] = l.UnitCents
+				}
+			}
+			row := n + 3 // after the lines and a blank row
+			for _, c := range b.Subtotal {
+				want[fmt.Sprintf("%s!F%d", bill, row)] = c.Cents
+				row++
+			}
+			want[fmt.Sprintf("%s!F%d", bill, row)] = b.SubtotalCents
+			for _, m := range [][2]int64{{b.SubtotalCents, b.ContingencyCents}, {b.SubtotalCents, b.OverheadCents}, {b.TaxBaseCents, b.TaxCents}} {
+				row++
+				want[fmt.Sprintf("%s!E%d", bill, row)], want[fmt.Sprintf("%s!F%d", bill, row)] = m[0], m[1]
+			}
+			want[fmt.Sprintf("%s!F%d", bill, row+1)] = b.TotalCents
+			labels, err := x.Rows("summary")
+			if err != nil {
+				t.Fatal(err)
+			}
+			figures := map[string]int64{"subtotal": b.SubtotalCents, "contingency": b.ContingencyCents, "overhead": b.OverheadCents,
+				"tax": b.TaxCents, "total": b.TotalCents}
+			for _, c := range b.Subtotal {
+				figures[c.Category] = c.Cents
+			}
+			overSeen := false
+			for i, rec := range labels {
+				if c, ok := figures[rec[0]]; ok {
+					want[fmt.Sprintf("summary!B%d", i+1)] = c
+				}
+				if rec[0] == "over (+) or under (-) budget" && !overSeen {
+					overSeen = true
+					want[fmt.Sprintf("summary!B%d", i+1)] = s.OverBudgetCents
+				}
+			}
+
+			cells, found := 0, 0
+			for _, line := range strings.Split(strings.TrimSpace(string(out)), "\n") {
+				f := strings.Split(line, "\t")
+				if len(f) != 4 {
+					t.Fatalf("openpyxl line %q", line)
+				}
+				cells++
+				key := f[0] + "!" + f[1]
+				if f[2] != "float" && f[2] != "int" {
+					t.Errorf("%s: cached value %s of type %s, want a number", key, f[3], f[2])
+					continue
+				}
+				got, err := strconv.ParseFloat(f[3], 64)
+				if err != nil {
+					t.Fatalf("%s: %q", key, f[3])
+				}
+				calc, err := x.Calc(f[0], f[1])
+				if err != nil {
+					t.Fatal(err)
+				}
+				if c, err := strconv.ParseFloat(calc, 64); err != nil || math.Abs(c-got) >= 0.005 {
+					t.Errorf("%s: cached %v, calculated %q", key, got, calc)
+				}
+				if w, ok := want[key]; ok {
+					found++
+					if int64(math.Round(got*100)) != w {
+						t.Errorf("%s: cached %v, want the estimate's %d cents", key, got, w)
+					}
+				}
+			}
+			if found != len(want) || cells < len(want)+1 {
+				t.Errorf("%d formula cells, %d of the %d figures found", cells, found, len(want))
+			}
+			// The over-budget percentage: the summary's figure.
+			for i, rec := range labels {
+				if rec[0] == "over (+) or under (-) budget" && len(rec) > 2 && rec[2] == "%" {
+					v, _ := x.Value("summary", fmt.Sprintf("B%d", i+1))
+					if got, _ := strconv.ParseFloat(v, 64); got != s.OverBudgetPct {
+						t.Errorf("over budget: cached %v %%, want %v", got, s.OverBudgetPct)
+					}
+				}
+			}
+		})
 	}
 }

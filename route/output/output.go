@@ -37,9 +37,11 @@ const FtPerM = 1 / 0.3048
 
 // WriteOptions says how outputs are rendered.
 type WriteOptions struct {
-	Units string // UnitsMetric (default) or UnitsImperial: CSV, XLSX and stdout only; JSON and GeoJSON stay metric
+	Units string // UnitsMetric (default) or UnitsImperial: CSV, XLSX and stdout only; JSON, GeoJSON and the GeoPackage stay metric
 	// SkipWorkbook leaves bom.xlsx out, for runs of many scenarios where the CSV is enough.
 	SkipWorkbook bool
+	// SkipGeoPackage leaves plan.gpkg out, for the same runs: routes.geojson has the legs.
+	SkipGeoPackage bool
 }
 
 func (o WriteOptions) imperial() bool { return o.Units == UnitsImperial }
@@ -77,6 +79,16 @@ func Files(ctx context.Context, r *route.Result, opt WriteOptions) ([]fileset.Ou
 	}
 	if err := ctx.Err(); err != nil {
 		return nil, err
+	}
+	if !opt.SkipGeoPackage {
+		gp, err := planGeoPackage(ctx, r)
+		if ctx.Err() != nil {
+			return nil, ctx.Err()
+		}
+		if err != nil {
+			return nil, fmt.Errorf("%s: %w", geoPackageFileName, err)
+		}
+		files = append(files, fileset.OutputFile{Name: geoPackageFileName, Data: gp})
 	}
 	if r.Estimate == nil || r.Estimate.BOM == nil {
 		return files, nil
@@ -119,14 +131,6 @@ func round2(x float64) float64 {
 	return v
 }
 
-// LegRoute is what a leg's line is drawn from: the served building (Link.To), the leg's steps
-// and the cross-connect (Link.From), without properties. routes.geojson and the report's map
-// both draw legs by it.
-func LegRoute(l *routing.Leg) geo.RouteFeature {
-	return geo.RouteFeature{FromBuilding: l.Link.To, ToBuilding: l.Link.From,
-		FromEntrance: l.EntranceTo, ToEntrance: l.EntranceFrom, Steps: l.Steps}
-}
-
 func routesGeoJSON(ctx context.Context, r *route.Result) ([]byte, error) {
 	var feats []geo.RouteFeature
 	for i := range r.Legs {
@@ -137,6 +141,7 @@ func routesGeoJSON(ctx context.Context, r *route.Result) ([]byte, error) {
 		if !l.Feasible {
 			continue
 		}
+		tr := travelOf(r.Site.Net, l)
 		props := map[string]any{
 			"link":         l.Link.ID,
 			"from":         l.Link.From,
@@ -145,19 +150,24 @@ func routesGeoJSON(ctx context.Context, r *route.Result) ([]byte, error) {
 			"rate":         l.Link.Rate,
 			"route_m":      round1(l.RouteM),
 			"riser_m":      round1(l.RiserM),
-			"pathways":     append([]string{}, l.Pathways...),
+			"pathways":     tr.pathways,
 			"medium":       l.Medium,
 			"application":  l.Application,
 			"construction": l.ConstructionText(),
 			"strands":      l.StrandsCable,
 			"reason":       l.Explain(),
+			"reason_code":  l.ReasonCode,
 			"cost_cents":   l.Cost.TotalCents(),
 			// The entrances used at each end, the buildings crossed and the junctions turned
-			// at, in travel order (issue 13); "" and [] until the optimizer fills them.
+			// at, in the line's order, from the leg's from building to its to building.
 			"from_entrance": l.EntranceFrom,
 			"to_entrance":   l.EntranceTo,
-			"crosses":       append([]string{}, l.Crosses...),
-			"turns":         append([]string{}, l.Turns...),
+			"crosses":       tr.crosses,
+			"turns":         tr.turns,
+			// The lists again as plain text (ListText), for clients without list properties.
+			"pathways_text": ListText(tr.pathways),
+			"crosses_text":  ListText(tr.crosses),
+			"turns_text":    ListText(tr.turns),
 		}
 		for _, nm := range routing.Wavelengths {
 			if x, ok := l.LossAt(nm); ok {
@@ -200,13 +210,15 @@ func linksCSV(r *route.Result, opt WriteOptions) ([]byte, error) {
 	head = append(head, "limit_db", "margin_db", "cost_"+cur, "cable_"+cur, "labour_"+cur, "construction_"+cur, "terminations_transceivers_"+cur, "reason")
 	// Appended after reason, so that no column before them moves.
 	head = append(head, passageHead...)
+	head = append(head, "reason_code")
 	w.Write(head)
 	db := func(x float64) string { return strconv.FormatFloat(x, 'f', 2, 64) }
 	for i := range r.Legs {
 		l := &r.Legs[i]
+		tr := travelOf(r.Site.Net, l)
 		row := []string{l.Link.ID, l.Name, l.Link.From, l.Link.To, l.Link.Rate, l.Link.FutureRate,
 			strconv.Itoa(l.StrandsCable), routeF(l.RouteM), latF(l.LateralM), riserF(l.RiserM),
-			strings.Join(l.Pathways, " "), strconv.FormatBool(l.Feasible), l.Medium, l.Application, l.ConstructionText()}
+			strings.Join(tr.pathways, " "), strconv.FormatBool(l.Feasible), l.Medium, l.Application, l.ConstructionText()}
 		for _, nm := range routing.Wavelengths {
 			if x, ok := l.LossAt(nm); ok {
 				row = append(row, db(x.LossDB))
@@ -229,7 +241,8 @@ func linksCSV(r *route.Result, opt WriteOptions) ([]byte, error) {
 		c := l.Cost
 		row = append(row, media.FormatCents(c.TotalCents()), media.FormatCents(c.CableCents), media.FormatCents(c.LabourCents),
 			media.FormatCents(c.ConstructionCents), media.FormatCents(c.OpticsCents), InUnits(opt, l.Explain()))
-		w.Write(append(row, passageText(l)...))
+		row = append(row, passageText(l, tr)...)
+		w.Write(append(row, l.ReasonCode))
 	}
 	if err := w.Flush(); err != nil {
 		return nil, err
@@ -266,10 +279,11 @@ var passageHead = []string{"from_entrance", "to_entrance", "crosses", "turns"}
 // passageText is how a leg passes the campus, as the last columns of links.csv and of the
 // workbook's links sheet: the entrance (a geo.Entry id) it uses at its from building (the
 // cross-connect) and at its to building, the buildings it passes through and the junctions
-// where it turns between pathways at a handhole the plan adds, each list in travel order with
-// its ids separated by spaces, as the pathways column.
-func passageText(l *routing.Leg) []string {
-	return []string{l.EntranceFrom, l.EntranceTo, strings.Join(l.Crosses, " "), strings.Join(l.Turns, " ")}
+// where it turns between pathways at a handhole the plan adds, each list in the order of the
+// leg's line (tr, from its from building to its to building) with its ids separated by
+// spaces, as the pathways column.
+func passageText(l *routing.Leg, tr travel) []string {
+	return []string{l.EntranceFrom, l.EntranceTo, strings.Join(tr.crosses, " "), strings.Join(tr.turns, " ")}
 }
 
 // Summary is the machine-readable digest of a planned scenario (summary.json).

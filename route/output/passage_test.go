@@ -28,7 +28,7 @@ func TestPassageOutputs(t *testing.T) {
 	rows := testplan.ReadCSV(t, testplan.FileOf(t, files, "links.csv"))
 	head := rows[0]
 	n := len(head)
-	if got := strings.Join(head[n-5:], ","); got != "reason,from_entrance,to_entrance,crosses,turns" {
+	if got := strings.Join(head[n-6:], ","); got != "reason,from_entrance,to_entrance,crosses,turns,reason_code" {
 		t.Fatalf("links.csv: last columns %s", got)
 	}
 	// The columns before them keep their places (a user's spreadsheet refers to them by
@@ -36,12 +36,14 @@ func TestPassageOutputs(t *testing.T) {
 	if got := strings.Join(head[:11], ","); got != "link,leg,from,to,rate,future_rate,strands,route_m,lateral_m,riser_m,pathways" {
 		t.Errorf("links.csv: first columns moved: %s", got)
 	}
-	want := map[string]string{"A-C": "A:1,C:1,B,J0002 HH-1", "A-B": "A:1,B:1,,"}
+	// Lists in the order of the leg's line, from A to C: HH-1 is met before J0002
+	// (TestLegLineFromTo checks the order against the geometry).
+	want := map[string]string{"A-C": "A:1,C:1,B,HH-1 J0002", "A-B": "A:1,B:1,,"}
 	for _, row := range rows[1:] {
 		if len(row) != n {
 			t.Errorf("links.csv row %q: %d cells, header has %d", row[0], len(row), n)
 		}
-		if got := strings.Join(row[n-4:], ","); got != want[row[0]] {
+		if got := strings.Join(row[n-5:n-1], ","); got != want[row[0]] {
 			t.Errorf("links.csv %s: passage %q, want %q", row[0], got, want[row[0]])
 		}
 	}
@@ -60,7 +62,7 @@ func TestPassageOutputs(t *testing.T) {
 	for _, f := range fc.Features {
 		p := f.Properties
 		got, _ := json.Marshal([]any{p["from_entrance"], p["to_entrance"], p["crosses"], p["turns"]})
-		wantJSON := `["A:1","C:1",["B"],["J0002","HH-1"]]`
+		wantJSON := `["A:1","C:1",["B"],["HH-1","J0002"]]`
 		if p["link"] == "A-B" {
 			wantJSON = `["A:1","B:1",[],[]]` // RFC 8259: an empty list is [], never null
 		}
@@ -72,14 +74,14 @@ func TestPassageOutputs(t *testing.T) {
 	xl, sheet := linksSheet(t, files)
 	defer xl.Close()
 	xn := len(sheet[0])
-	if got := strings.Join(sheet[0][xn-5:], ","); got != "note,from entrance,to entrance,buildings crossed,turns at added handholes" {
+	if got := strings.Join(sheet[0][xn-6:], ","); got != "note,from entrance,to entrance,buildings crossed,turns at added handholes,reason code" {
 		t.Fatalf("bom.xlsx links: last columns %s", got)
 	}
 	found := false
 	for _, row := range sheet[1:] {
 		if row[0] == "A-C" {
 			found = true
-			if got := strings.Join(row[xn-4:], ","); got != want["A-C"] {
+			if got := strings.Join(row[xn-5:xn-1], ","); got != want["A-C"] {
 				t.Errorf("bom.xlsx links A-C: %q, want %q", got, want["A-C"])
 			}
 		}
@@ -162,12 +164,12 @@ func TestPassagePayloads(t *testing.T) {
 	wantCells := []string{
 		// OWASP CSV injection guidance: a text cell beginning with = + - @ gets a leading quote;
 		// Unicode TR #9 / CVE-2021-42574 (Trojan Source) for bidi controls, ECMA-48 for ESC
-		"'=A1+1:1", "'@C<U+001B>[2J:1", "'-B<U+202E>", "J0002 +HH<U+2066>",
+		"'=A1+1:1", "'@C<U+001B>[2J:1", "'-B<U+202E>", "'+HH<U+2066> J0002",
 	}
-	if got := row[n-4:]; !slices.Equal(got, wantCells) {
+	if got := row[n-5 : n-1]; !slices.Equal(got, wantCells) {
 		t.Errorf("links.csv passage cells %q, want %q", got, wantCells)
 	}
-	// Every id of the list is a payload, the first one neutralised as the cell's start.
+	// The payload second in the list (the leg's own order is the line's reversed).
 	_, leg := testplan.LegOf(t, r, "=A1+1-@C\x1b[2J")
 	leg.Turns = []string{"+HH\u2066", "J0002"}
 	files, err = Files(context.Background(), r, WriteOptions{})
@@ -176,8 +178,8 @@ func TestPassagePayloads(t *testing.T) {
 	}
 	rows = testplan.ReadCSV(t, testplan.FileOf(t, files, "links.csv"))
 	for _, rec := range rows[1:] {
-		if rec[0] == row[0] && rec[n-1] != "'+HH<U+2066> J0002" {
-			t.Errorf("links.csv turns %q, want %q", rec[n-1], "'+HH<U+2066> J0002")
+		if rec[0] == row[0] && rec[n-2] != "J0002 +HH<U+2066>" {
+			t.Errorf("links.csv turns %q, want %q", rec[n-2], "J0002 +HH<U+2066>")
 		}
 	}
 
@@ -187,15 +189,15 @@ func TestPassagePayloads(t *testing.T) {
 	xn := len(sheet[0])
 	checked := 0
 	for r, rec := range sheet[1:] {
-		if len(rec) < xn || rec[xn-4] == "" {
-			continue
+		if len(rec) < xn || rec[xn-5] != "=A1+1:1" || rec[xn-3] == "" {
+			continue // the leg to @C, through -B
 		}
 		checked++
-		if got, want := rec[xn-4:], []string{"=A1+1:1", "@C<U+001B>[2J:1", "-B<U+202E>", "+HH<U+2066> J0002"}; !slices.Equal(got, want) {
+		if got, want := rec[xn-5:xn-1], []string{"=A1+1:1", "@C<U+001B>[2J:1", "-B<U+202E>", "J0002 +HH<U+2066>"}; !slices.Equal(got, want) {
 			t.Errorf("bom.xlsx links passage %q, want %q", got, want)
 		}
-		if f, err := xl.Formula("links", workbook.Ref(xn-4, r+2)); err != nil || f != "" {
-			t.Errorf("bom.xlsx links %s: entrance stored as formula %q (%v)", workbook.Ref(xn-4, r+2), f, err)
+		if f, err := xl.Formula("links", workbook.Ref(xn-5, r+2)); err != nil || f != "" {
+			t.Errorf("bom.xlsx links %s: entrance stored as formula %q (%v)", workbook.Ref(xn-5, r+2), f, err)
 		}
 	}
 	if checked != 1 {
@@ -219,7 +221,7 @@ func TestPassagePayloads(t *testing.T) {
 	for _, f := range fc.Features {
 		p := f.Properties
 		ok = ok || p.From == "=A1+1:1" && p.To == "@C\x1b[2J:1" && slices.Equal(p.Crosses, []string{"-B\u202E"}) &&
-			slices.Equal(p.Turns, []string{"+HH\u2066", "J0002"})
+			slices.Equal(p.Turns, []string{"J0002", "+HH\u2066"})
 	}
 	if !ok {
 		t.Errorf("routes.geojson does not keep the ids exactly: %+v", fc.Features)

@@ -22,6 +22,16 @@ const (
 // PrimaryInfeasible is the reason of a diverse leg whose primary is infeasible.
 const PrimaryInfeasible = "the primary leg is infeasible"
 
+// Codes of a leg's reason made here (the media engine's are media.Code*): at most 10
+// characters, stable.
+const (
+	CodeNoRoute   = "NO-ROUTE"   // the optimizer found no route a medium can carry
+	CodeExcluded  = "EXCLUDED"   // every medium was left out before routing
+	CodePrimary   = "PRIMARY"    // a diverse leg not planned because its primary is infeasible
+	CodeNoDiverse = "NO-DIVERSE" // no second route independent of the primary
+	CodeSharedPt  = "SPOF"       // a feasible diverse leg that shares a single point of failure with its primary
+)
+
 // Leg is one routed cable of a link: the primary, or the diverse second route.
 type Leg struct {
 	Link     *site.Link
@@ -33,6 +43,9 @@ type Leg struct {
 	RiserM   float64    // risers at both ends, in metres
 	Feasible bool
 	Reason   string // why the leg is infeasible, or notes
+	// ReasonCode is the short stable code of why the leg is infeasible, or of how its medium
+	// was chosen (a media.Code* or Code* constant), set where the reason is made.
+	ReasonCode string
 
 	// EntranceTo and EntranceFrom are the entrances (geo.Entry IDs) the leg uses at the
 	// served building (Link.To) and at the cross-connect (Link.From).
@@ -87,21 +100,21 @@ func legsOf(s *site.Site, cm *Model, prob *optimize.Problem, rt *optimize.Route,
 	primary := base
 	primary.Name = LegPrimary
 	if !rt.Feasible {
-		primary.Reason = why
+		primary.Reason, primary.ReasonCode = why, CodeNoRoute
 		if primary.Reason == "" {
 			primary.Reason = "no route and medium satisfy the rules"
 		}
 		switch {
 		case len(info.options) == 0 && len(info.excluded) > 0:
 			// Nothing was routed: the optimizer's reason would only restate that.
-			primary.Reason = strings.Join(info.excluded, "; ")
+			primary.Reason, primary.ReasonCode = strings.Join(info.excluded, "; "), CodeExcluded
 		case len(info.excluded) > 0:
 			primary.Reason += "; before routing: " + strings.Join(info.excluded, "; ")
 		}
 		legs := []Leg{primary}
 		if l.Diverse {
 			d := base
-			d.Name, d.Reason = LegDiverse, PrimaryInfeasible
+			d.Name, d.Reason, d.ReasonCode = LegDiverse, PrimaryInfeasible, CodePrimary
 			legs = append(legs, d)
 		}
 		return legs
@@ -118,15 +131,17 @@ func legsOf(s *site.Site, cm *Model, prob *optimize.Problem, rt *optimize.Route,
 			for _, b := range []string{l.To, l.From} {
 				if e, one := cm.layout.endEntry[b]; one && d.Feasible {
 					d.Choice += fmt.Sprintf("; both legs use building %s's only entrance %s, a single point of failure", b, e.ID)
+					d.ReasonCode = CodeSharedPt
 				}
 			}
 			// The optimizer keeps the legs off each other's nodes; a junction drawn as several
 			// nodes (runs of duct crossing with no structure) may still be on both.
 			if shared := sharedJunctions(s, &primary, &d); len(shared) > 0 && d.Feasible {
 				d.Choice += fmt.Sprintf("; both legs pass junction %s, where their ducts cross with no structure: a single point of failure", strings.Join(shared, ", "))
+				d.ReasonCode = CodeSharedPt
 			}
 		} else {
-			d.Reason = "no diverse route: " + singlePoint(s, cm.layout, prob, rt)
+			d.Reason, d.ReasonCode = "no diverse route: "+singlePoint(s, cm.layout, prob, rt), CodeNoDiverse
 		}
 		legs = append(legs, d)
 	}
@@ -219,7 +234,7 @@ func fillLeg(s *site.Site, cm *Model, leg *Leg, ol optimize.Leg, medium string, 
 	facts.SlackM, facts.Splices = leg.Cable.SlackM(), facts.Splices+leg.Cable.Joins
 	ch := cm.eng.Choose(facts)
 	leg.Rejected = ch.Rejected
-	leg.Choice = ch.Reason
+	leg.Choice, leg.ReasonCode = ch.Reason, ch.Code
 	if !ch.Feasible {
 		leg.Reason = ch.Reason
 		return

@@ -100,7 +100,7 @@ func BenchmarkSweep(b *testing.B) {
 			var ms runtime.MemStats
 			for i := 0; i < b.N; i++ {
 				out := benchOut(b)
-				rep, err := Run(context.Background(), f, Options{Out: out, Write: output.WriteOptions{SkipWorkbook: !bc.full},
+				rep, err := Run(context.Background(), f, Options{Out: out, Write: output.WriteOptions{SkipWorkbook: !bc.full, SkipGeoPackage: !bc.full},
 					Progress: func(p Progress) {
 						if p.Done%50 == 0 {
 							runtime.ReadMemStats(&ms)

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"fmt"
 	"math"
+	"reflect"
 	"slices"
 	"sort"
 	"strconv"
@@ -341,7 +342,7 @@ func compareXLSX(js []judged, keys []string, cur string) ([]byte, error) {
 	for _, j := range js {
 		cells := []workbook.Cell{workbook.Int(int64(j.Index)), workbook.Text(j.ID), textOrBlank(j.Case)}
 		for _, k := range keys {
-			cells = append(cells, textOrBlank(j.value(k)))
+			cells = append(cells, axisCell(k, j.value(k)))
 		}
 		for _, c := range fixedColumns {
 			cells = append(cells, c.cell(j))
@@ -356,20 +357,40 @@ func compareXLSX(js []judged, keys []string, cur string) ([]byte, error) {
 		}
 		panic("sweep: no column " + csvName)
 	}
+	// The totals are formulas over the scenarios sheet, each with its result worked out here
+	// from the same rows as its cached value.
+	n := tallyOf(js)
+	maxRank, pareto := 0, 0
+	for _, j := range js {
+		if j.Status == StatusOK && j.pareto {
+			pareto++
+		}
+		maxRank = max(maxRank, j.rank)
+	}
+	// costAtRank is INDEX(cost, MATCH(rank, ranks, 0)): the total cost of the first row of
+	// that rank, "" (IFERROR) when no row has it.
+	costAtRank := func(expr string, rank int) workbook.Cell {
+		for _, j := range js {
+			if rank > 0 && j.rank == rank {
+				return workbook.Formula(expr, float64(j.TotalCents)/100, 2)
+			}
+		}
+		return workbook.FormulaText(expr, "")
+	}
 	tot := wb.AddSheet("totals", workbook.Column{Name: "what"}, workbook.Column{Name: "value"})
 	status := col("status")
-	tot.Append(workbook.Text("scenarios"), workbook.Formula("COUNTA("+sh.Range(1)+")", 0))
-	tot.Append(workbook.Text("ok"), workbook.Formula("COUNTIF("+status+",\"ok\")", 0))
-	tot.Append(workbook.Text("with infeasible legs"), workbook.Formula("COUNTIF("+status+",\"infeasible\")", 0))
-	tot.Append(workbook.Text("failed"), workbook.Formula("COUNTIF("+status+",\"failed\")", 0))
-	tot.Append(workbook.Text("pareto optimal"), workbook.Formula("COUNTIF("+col("pareto")+",TRUE)", 0))
+	tot.Append(workbook.Text("scenarios"), workbook.Formula("COUNTA("+sh.Range(1)+")", float64(len(js)), 0))
+	tot.Append(workbook.Text("ok"), workbook.Formula("COUNTIF("+status+",\"ok\")", float64(n.ok), 0))
+	tot.Append(workbook.Text("with infeasible legs"), workbook.Formula("COUNTIF("+status+",\"infeasible\")", float64(n.infeasible), 0))
+	tot.Append(workbook.Text("failed"), workbook.Formula("COUNTIF("+status+",\"failed\")", float64(n.failed), 0))
+	tot.Append(workbook.Text("pareto optimal"), workbook.Formula("COUNTIF("+col("pareto")+",TRUE)", float64(pareto), 0))
 	// The cheapest and dearest ok scenarios are those ranked first and last; INDEX and MATCH
 	// work in every spreadsheet program, unlike the newer conditional MIN and MAX.
 	cost, rank := col("total_cost"), col("cost_rank")
 	tot.Append(workbook.Text("lowest total cost of an ok scenario"+unitSuffix(cur)),
-		workbook.Formula("IFERROR(INDEX("+cost+",MATCH(1,"+rank+",0)),\"\")", 2))
+		costAtRank("IFERROR(INDEX("+cost+",MATCH(1,"+rank+",0)),\"\")", 1))
 	tot.Append(workbook.Text("highest total cost of an ok scenario"+unitSuffix(cur)),
-		workbook.Formula("IFERROR(INDEX("+cost+",MATCH(MAX("+rank+"),"+rank+",0)),\"\")", 2))
+		costAtRank("IFERROR(INDEX("+cost+",MATCH(MAX("+rank+"),"+rank+",0)),\"\")", maxRank))
 	return wb.Bytes()
 }
 
@@ -380,6 +401,36 @@ func unitSuffix(cur string) string {
 	return " (" + cur + ")"
 }
 
+// axisCell is an override's value (as written, see Override.Value) as a typed cell: a number
+// for a setting of a numeric type, TRUE or FALSE for a boolean one, text for any other (file
+// names, rates, "~" for null) and for a value that does not read as its type; blank when the
+// scenario keeps the base plan's value.
+func axisCell(key, value string) workbook.Cell {
+	if value == "" {
+		return workbook.Blank()
+	}
+	st, ok := settings()[key]
+	if !ok || st.path {
+		return workbook.Text(value)
+	}
+	typ := st.typ
+	for typ.Kind() == reflect.Pointer {
+		typ = typ.Elem()
+	}
+	switch typ.Kind() {
+	case reflect.Bool:
+		if b, err := strconv.ParseBool(value); err == nil {
+			return workbook.Bool(b)
+		}
+	case reflect.Int, reflect.Int8, reflect.Int16, reflect.Int32, reflect.Int64,
+		reflect.Uint, reflect.Uint8, reflect.Uint16, reflect.Uint32, reflect.Uint64, reflect.Float32, reflect.Float64:
+		if x, err := strconv.ParseFloat(value, 64); err == nil && !math.IsInf(x, 0) && !math.IsNaN(x) {
+			return workbook.Number(x, -1)
+		}
+	}
+	return workbook.Text(value)
+}
+
 func textOrBlank(s string) workbook.Cell {
 	if s == "" {
 		return workbook.Blank()
@@ -387,25 +438,35 @@ func textOrBlank(s string) workbook.Cell {
 	return workbook.Text(s)
 }
 
-func compareMD(js []judged, keys []string, cur string) []byte {
-	var b bytes.Buffer
-	var ok, inf, failed int
-	var front []string
+// tally counts the scenarios by status: ok, with infeasible legs, failed (any other).
+type tally struct{ ok, infeasible, failed int }
+
+func tallyOf(js []judged) tally {
+	var n tally
 	for _, j := range js {
 		switch j.Status {
 		case StatusOK:
-			ok++
+			n.ok++
 		case StatusInfeasible:
-			inf++
+			n.infeasible++
 		default:
-			failed++
+			n.failed++
 		}
+	}
+	return n
+}
+
+func compareMD(js []judged, keys []string, cur string) []byte {
+	var b bytes.Buffer
+	var front []string
+	for _, j := range js {
 		if j.pareto {
 			front = append(front, escape.MarkdownCode(j.ID))
 		}
 	}
+	n := tallyOf(js)
 	fmt.Fprintf(&b, "# Sweep comparison\n\n")
-	fmt.Fprintf(&b, "%d scenarios: %d ok, %d with infeasible legs, %d failed.", len(js), ok, inf, failed)
+	fmt.Fprintf(&b, "%d scenarios: %d ok, %d with infeasible legs, %d failed.", len(js), n.ok, n.infeasible, n.failed)
 	if cur != "" {
 		fmt.Fprintf(&b, " Money in %s.", escape.Markdown(cur))
 	}
@@ -459,7 +520,7 @@ func compareMD(js []judged, keys []string, cur string) []byte {
 			}
 		}
 	}
-	if failed > 0 {
+	if n.failed > 0 {
 		fmt.Fprintf(&b, "\n## Failed scenarios\n\n")
 		for _, j := range js {
 			if j.Status == StatusFailed {

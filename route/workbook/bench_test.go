@@ -21,7 +21,7 @@ func BenchmarkBytes(b *testing.B) {
 			for c := 1; c < 11; c++ {
 				cells = append(cells, Number(float64(r*c)/3, 1))
 			}
-			cells = append(cells, Formula(fmt.Sprintf("SUM(%s:%s)", Ref(1, r+2), Ref(10, r+2)), 1))
+			cells = append(cells, Formula(fmt.Sprintf("SUM(%s:%s)", Ref(1, r+2), Ref(10, r+2)), 0, 1))
 			sh.Append(cells...)
 		}
 	}

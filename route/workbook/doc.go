@@ -7,6 +7,8 @@
 // (the sweep's compare.xlsx, the plan's bill of materials) looks and behaves the same.
 //
 // Output is byte-stable: the same workbook always gives the same bytes (no timestamps, styles
-// created in a fixed order). Formulas are stored without a cached result and the workbook asks
-// the spreadsheet program to recalculate every formula when the file is opened.
+// created in a fixed order). Each formula is stored with its result, worked out by the caller,
+// as the cell's cached value, so that readers that do not calculate (openpyxl's data_only,
+// pandas, previewers) see it; the workbook still asks the spreadsheet program to recalculate
+// every formula when the file is opened.
 package workbook

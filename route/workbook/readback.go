@@ -28,8 +28,8 @@ func (r *Reader) Close() error { return r.f.Close() }
 func (r *Reader) Sheets() []string { return r.f.GetSheetList() }
 
 // Value returns the value stored in a cell (A1 reference) as text, unformatted: a number
-// as its shortest decimal form, a boolean as 1 or 0, a formula cell's cached result (none
-// for this package's formulas), "" for a blank cell.
+// as its shortest decimal form, a boolean as 1 or 0, a formula cell's cached result (the
+// value given to Formula), "" for a blank cell.
 func (r *Reader) Value(sheet, ref string) (string, error) {
 	v, err := r.f.GetCellValue(sheet, ref, excelize.Options{RawCellValue: true})
 	if err != nil {

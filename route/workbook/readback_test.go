@@ -28,7 +28,7 @@ func TestReader(t *testing.T) {
 		{"number", "links", "B2", "412.35", "", "412.35"},
 		{"money in currency units", "links", "D2", "12345.67", "", "12345.67"},
 		{"boolean", "links", "E3", "0", "", "FALSE"},
-		{"formula", "totals", "B3", "", "SUM('links'!$D$2:$D$4)", "12345.72"},
+		{"formula, its cached value stored", "totals", "B3", "12345.72", "SUM('links'!$D$2:$D$4)", "12345.72"},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {

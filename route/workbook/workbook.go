@@ -47,9 +47,12 @@ const (
 type Cell struct {
 	kind     kind
 	text     string  // text, or formula without the leading "="
-	num      float64 // number value
+	num      float64 // number value, or a formula's cached numeric result
 	decimals int     // decimals shown for numbers and formulas; -1 for general format
 	b        bool
+	// cachedText marks a formula whose cached result is the text cached, not num.
+	cachedText bool
+	cached     string
 }
 
 // Blank returns an empty cell.
@@ -84,10 +87,21 @@ func Bool(b bool) Cell { return Cell{kind: kindBool, b: b} }
 
 // Formula returns a formula cell; expr is written without the leading "=", in the
 // spreadsheet's English syntax with A1 references (see Ref and Sheet.Range), and its result is
-// shown with the given decimals (-1 for general format).
-func Formula(expr string, decimals int) Cell {
+// shown with the given decimals (-1 for general format). value is the formula's result as
+// the caller works it out from the same figures; it is stored as the cell's cached value
+// (ECMA-376 Part 1 §18.3.1.96, the v element beside f), so that readers that do not calculate
+// (openpyxl with data_only, pandas, file previewers) see it. A spreadsheet program
+// recalculates the formula and shows the same. A value that is not finite is stored as no
+// cached value.
+func Formula(expr string, value float64, decimals int) Cell {
 	checkDecimals(decimals)
-	return Cell{kind: kindFormula, text: strings.TrimPrefix(expr, "="), decimals: decimals}
+	return Cell{kind: kindFormula, text: strings.TrimPrefix(expr, "="), num: value, decimals: decimals}
+}
+
+// FormulaText is Formula for a formula whose result is text, value (such as the "" of an
+// IFERROR that finds nothing).
+func FormulaText(expr, value string) Cell {
+	return Cell{kind: kindFormula, text: strings.TrimPrefix(expr, "="), decimals: -1, cachedText: true, cached: value}
 }
 
 func checkDecimals(d int) {
@@ -109,7 +123,13 @@ func (c Cell) display() string {
 		}
 		return "FALSE"
 	case kindFormula:
-		return "0000000000" // unknown until calculated: size for a ten-digit result
+		if c.cachedText {
+			return c.cached
+		}
+		if c.decimals < 0 {
+			return strconv.FormatFloat(c.num, 'g', -1, 64)
+		}
+		return strconv.FormatFloat(c.num, 'f', c.decimals, 64)
 	}
 	return ""
 }
@@ -426,11 +446,17 @@ func (b *builder) value(c Cell) (any, error) {
 	case kindBool:
 		return c.b, nil
 	case kindNumber, kindFormula:
-		out := excelize.Cell{}
-		if c.kind == kindNumber {
-			out.Value = c.num
-		} else {
+		out := excelize.Cell{Value: c.num}
+		if c.kind == kindFormula {
+			// excelize's stream writer writes the formula and, after it, the value as the
+			// cached result: <c><f>…</f><v>…</v></c>.
 			out.Formula = c.text
+			switch {
+			case c.cachedText:
+				out.Value = c.cached
+			case math.IsNaN(c.num) || math.IsInf(c.num, 0):
+				out.Value = nil
+			}
 		}
 		if c.decimals >= 0 {
 			id, err := b.style(styleKey{decimals: c.decimals})

@@ -27,9 +27,10 @@ func sample() *Workbook {
 	s.Append(Text("ADM-SCI"), Number(88, 1), Int(12), Cents(-5), Bool(false))
 	s.Append(Text("ADM-OBS"), Number(1e-3, 3), Int(2), Cents(10), Bool(true), Blank())
 	t := w.AddSheet("totals", Column{Name: "what"}, Column{Name: "value"})
-	t.Append(Text("length"), Formula("SUM("+s.Range(1)+")", 1))
-	t.Append(Text("cost"), Formula("=SUM("+s.Range(3)+")", 2))
-	t.Append(Text("feasible links"), Formula("COUNTIF("+s.Range(4)+",TRUE)", 0))
+	t.Append(Text("length"), Formula("SUM("+s.Range(1)+")", 412.35+88+1e-3, 1))
+	t.Append(Text("cost"), Formula("=SUM("+s.Range(3)+")", 12345.72, 2))
+	t.Append(Text("feasible links"), Formula("COUNTIF("+s.Range(4)+",TRUE)", 2, 0))
+	t.Append(Text("first note"), FormulaText("IFERROR(INDEX("+s.Range(5)+",MATCH(\"x\","+s.Range(5)+",0)),\"\")", ""))
 	return w
 }
 
@@ -163,6 +164,27 @@ func openpyxl(t *testing.T, w *Workbook, script string) string {
 		t.Fatalf("openpyxl: %v\n%s", err, out)
 	}
 	return string(out)
+}
+
+// TestOpenpyxlCached reads the workbook with openpyxl's data_only mode (python3-openpyxl),
+// which reads a formula cell's cached value (ECMA-376 Part 1 §18.3.1.96, v) instead of its
+// formula, as pandas and file previewers do: each is the value given to Formula, a number
+// stored as a number; a text result is the empty string openpyxl reads as None.
+func TestOpenpyxlCached(t *testing.T) {
+	t.Parallel()
+	out := openpyxl(t, sample(), `import sys, openpyxl
+wb = openpyxl.load_workbook(sys.argv[1], data_only=True)
+for row in wb["totals"].iter_rows(min_row=2, values_only=True):
+    print(repr(row))
+`)
+	want := `('length', 500.351)
+('cost', 12345.72)
+('feasible links', 2)
+('first note', None)
+`
+	if out != want {
+		t.Errorf("openpyxl data_only read:\n%s\nwant:\n%s", out, want)
+	}
 }
 
 // TestOpenpyxl reads the workbook with openpyxl (Debian package python3-openpyxl), a reader

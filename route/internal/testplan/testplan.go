@@ -4,6 +4,8 @@ import (
 	"bytes"
 	"context"
 	"encoding/csv"
+	"os"
+	"os/exec"
 	"slices"
 	"spanwright/geo"
 	"spanwright/media"
@@ -79,7 +81,7 @@ func BOMLine(b *media.BOM, prefix string) (media.BOMLine, bool) {
 	return media.BOMLine{}, false
 }
 
-func DemoResult(t *testing.T) *route.Result {
+func DemoResult(t testing.TB) *route.Result {
 	t.Helper()
 	s, p := testsite.Demo(t)
 	eng, err := plan.Engine(p)
@@ -145,4 +147,19 @@ func PassageResult(t *testing.T, ids *strings.Replacer, hub, b, c, turn string) 
 	// The bill's turn handholes, as the routing would give them for these turns.
 	r.Estimate.Construction.TurnJunctions = slices.Compact(slices.Sorted(slices.Values(leg.Turns)))
 	return r
+}
+
+// Openpyxl returns Debian's Python (/usr/bin/python3) when openpyxl imports there
+// (python3-openpyxl, the independent .xlsx reader the workbook tests use); it fails the test
+// under CI=true, where .ci/run installs it, and skips it elsewhere.
+func Openpyxl(t *testing.T) string {
+	t.Helper()
+	py := "/usr/bin/python3"
+	if err := exec.Command(py, "-c", "import openpyxl").Run(); err != nil {
+		if os.Getenv("CI") == "true" {
+			t.Fatalf("python3-openpyxl is needed in CI: %v", err)
+		}
+		t.Skip("python3-openpyxl not installed (apt-get install python3-openpyxl)")
+	}
+	return py
 }
