@@ -110,7 +110,7 @@ func TestHandholesAlongNewRun(t *testing.T) {
 			}
 			// The crew: a set-up per section, an entry per handhole, two cable ends.
 			for item, q := range map[string]float64{
-				"crew set-up, per pull section":                    float64(want + 1),
+				"crew set-up, per pull":                    float64(want + 1),
 				"crew entry into a structure, per cable":           float64(want),
 				"cable end preparation":                            2,
 				"building entrance: penetration, sleeve, firestop": 2,

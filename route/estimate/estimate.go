@@ -305,13 +305,18 @@ func (r *run) pullPlan(i int, added map[string]bool) {
 		first := j
 		var steps []install.Step
 		var points []int
+		// atPoint: the cable is at a pull point, where a bend is taken inside the structure
+		// (site.NewRuns places handholes at bends so).
+		atPoint := func() bool { return len(points) > 0 && points[len(points)-1] == len(steps) }
 		for ; j < len(spans) && spans[j].Type == geo.TypeDuct; j++ {
 			sp := &spans[j]
 			rm := radius(sp)
 			if j > first {
-				if s.IsStructure(juncs[j]) || slices.Contains(leg.Turns, juncs[j]) {
-					points = append(points, len(steps)) // a structure, or one the plan adds where it turns
-				} else if turn := s.Net.TurnDeg(leg.Steps[j-1], leg.Steps[j]); turn > 0 {
+				joins := s.JoinsNetwork(juncs[j]) && (spans[j-1].Status == geo.StatusProposed || sp.Status == geo.StatusProposed)
+				if s.IsStructure(juncs[j]) || slices.Contains(leg.Turns, juncs[j]) || joins {
+					// a structure, or a handhole the plan adds where it turns or new pathway joins
+					points = append(points, len(steps))
+				} else if turn := s.Net.TurnDeg(leg.Steps[j-1], leg.Steps[j]); turn > 0 && !atPoint() {
 					rb := math.Min(rm, radius(&spans[j-1]))
 					steps = append(steps, install.Step{Kind: install.KindBend, AngleDeg: turn, RadiusM: rb})
 				}
@@ -332,7 +337,7 @@ func (r *run) pullPlan(i int, added map[string]bool) {
 				if leg.Steps[j].Reverse {
 					qq, bq = len(segs)-1-q, len(segs)-1-q
 				}
-				if q > 0 && bq < len(sp.BendsDeg) && sp.BendsDeg[bq] > 0 {
+				if q > 0 && bq < len(sp.BendsDeg) && sp.BendsDeg[bq] > 0 && !atPoint() {
 					steps = append(steps, install.Step{Kind: install.KindBend, AngleDeg: sp.BendsDeg[bq], RadiusM: rm})
 				}
 				straight := func(m float64) {
@@ -722,7 +727,7 @@ func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg, ru
 		work("splice fibre, mid-span joins", media.UnitEach, joins*float64(t.Size.Count), media.PriceKey{Item: media.RateSplice})
 	}
 	// Along the route by pathway type; then risers, coils and entrance loops in tray,
-	// laterals buried, structure loops in duct.
+	// counted laterals and structure loops in duct.
 	var alongM [len(items.PathwayTypes)]float64
 	for _, st := range l.Steps {
 		sp, _ := s.Net.Span(st.SpanID)
@@ -736,8 +741,9 @@ func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg, ru
 	times(n, items.LegEnds(l.RiserM, t.EndSlackM+t.EntranceLoopM, l.LateralM)...)
 	times(n, items.StructureLoops(t.StructureLoopM)...)
 	// The crew, per cable: a pull set-up per section between the pull points the route
-	// passes or ends at (structures, handholes along new construction, handholes where it
-	// turns), an entry at each maintenance hole or handhole among them, both ends prepared.
+	// passes or ends at (structures, handholes along new construction, where it turns and
+	// where its new pathway joins the network), an entry at each maintenance hole or handhole
+	// among them, both ends prepared.
 	var pull, entered float64
 	for _, j := range s.JunctionsOf(l.Steps) {
 		if items.PullPoint(s, j) {
@@ -749,7 +755,8 @@ func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg, ru
 	}
 	added := float64(len(l.Turns))
 	for _, st := range l.Steps {
-		added += float64(len(runHH[st.SpanID]))
+		sp, _ := s.Net.Span(st.SpanID)
+		added += float64(len(runHH[st.SpanID])) + items.JoinEnds(s, &sp)
 	}
 	times(n, items.AtJunctions(p, 1+pull+added, entered+added)...)
 	times(n, items.Crew(p, media.CrewCableEndPrep, 2)...)

@@ -199,7 +199,7 @@ func Crew(p *media.PriceBook, task string, amount float64) []media.Quantity {
 }
 
 var crewItems = map[string]string{
-	media.CrewPullSetup:        "crew set-up, per pull section",
+	media.CrewPullSetup:        "crew set-up, per pull",
 	media.CrewStructureEntry:   "crew entry into a structure, per cable",
 	media.CrewCableEndPrep:     "cable end preparation",
 	media.CrewEnclosureInstall: "enclosure or panel installation",
@@ -242,9 +242,26 @@ func nonPercent(p *media.PriceBook) []media.BidItem {
 
 // PullPoint reports whether a cable's pull breaks at junction j: a structure (site.IsStructure)
 // splits a pull into sections, each set up on its own (media.CrewPullSetup). Handholes the
-// plan adds along new construction and where a route turns are pull points too; those it adds
-// where new pathway joins the network are not counted (README, "One cost model").
+// plan adds along new construction, where a route turns and where new pathway joins the
+// network (JoinEnds) are pull points too.
 func PullPoint(s *site.Site, j string) bool { return s.IsStructure(j) }
+
+// JoinEnds counts the ends of span sp where a route along it passes a handhole the plan adds
+// because new pathway joins the network there (site.JoinsNetwork): the ends of a proposed
+// span at such junctions. Each is a pull point and a handhole entered. A route from one new
+// span into another at such a junction counts it twice (README, "One cost model").
+func JoinEnds(s *site.Site, sp *geo.Span) float64 {
+	if sp.Status != geo.StatusProposed {
+		return 0
+	}
+	n := 0.0
+	for _, j := range []string{sp.From, sp.To} {
+		if s.JoinsNetwork(j) {
+			n++
+		}
+	}
+	return n
+}
 
 // Entered reports whether a crew enters junction j to pass a cable through it: a maintenance
 // hole or handhole (site.LoopStructure), as for slack loops.

@@ -95,6 +95,11 @@ func TestGeoPackageGDAL(t *testing.T) {
 		t.Errorf("ogrinfo warns:\n%s", text)
 	}
 	works := len(r.Opened)
+	for _, en := range r.Estimate.Construction.Entrances {
+		if en.LateralM > 0 {
+			works++ // a counted lateral built (items.Entrance)
+		}
+	}
 	cables := 0
 	for _, f := range r.Fill {
 		cables += f.Cables
@@ -111,7 +116,7 @@ func TestGeoPackageGDAL(t *testing.T) {
 		LayerLegs:         "Line String " + strconv.Itoa(len(r.Legs)) + " EPSG:4326",
 		LayerSpans:        "Line String " + strconv.Itoa(len(r.Fill)) + " EPSG:4326",
 		LayerConstruction: "Line String " + strconv.Itoa(works) + " EPSG:4326",
-		LayerStructures:   "Point " + strconv.Itoa(len(r.Handholes)+r.Estimate.AddedPullPoints) + " EPSG:4326",
+		LayerStructures:   "Point " + strconv.Itoa(len(r.Handholes)+len(r.Estimate.Construction.RunHandholes)+r.Estimate.AddedPullPoints) + " EPSG:4326",
 		LayerBuildings:    "Multi Polygon " + strconv.Itoa(len(r.Site.Campus.Buildings)) + " EPSG:4326",
 		LayerEntrances:    "Point " + strconv.Itoa(len(r.Site.Net.Entrances)) + " EPSG:4326",
 	}

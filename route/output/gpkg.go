@@ -31,6 +31,7 @@ const (
 const (
 	WorkOpened    = "opened"     // a proposed pathway the plan builds
 	WorkAddedDuct = "added duct" // ducts added beside an existing duct span: one trench or bore
+	WorkLateral   = "lateral"    // the counted lateral to an entrance the plan uses
 )
 
 // Purposes of an added structure.
@@ -38,6 +39,7 @@ const (
 	PurposeJoin = "join" // where a pathway the plan opens joins the network
 	PurposeTurn = "turn" // where a route turns from one pathway into another
 	PurposePull = "pull" // an intermediate pull point the pulling plan adds (estimate.Estimate.AddedPullPoints)
+	PurposeRun  = "run"  // along new construction, at handhole_spacing_m or the bend budget (site.NewRuns)
 )
 
 // gpkgLayers are plan.gpkg's layers, their columns and what each holds: the README's table
@@ -83,16 +85,17 @@ func gpkgLayers() []gpkgout.Layer {
 		{Name: LayerConstruction, Geometry: gpkgout.LineString,
 			Description: "new civil work, one row per span and kind of work: trenched on a surface or bored",
 			Columns: []gpkgout.Column{
-				c("span", tx, "span id"), c("pathway", tx, "pathway id"), c("work", tx, "opened (a proposed pathway) or added duct"),
+				c("span", tx, "span id"), c("pathway", tx, "pathway id"), c("work", tx, "opened (a proposed pathway), added duct, or lateral (to an entrance)"),
 				c("method", tx, "trench or bore"), c("surface", tx, "surface trenched and restored; none for a bore"),
 				c("length_m", re, "length of new work, metres"), c("added_ducts", in, "ducts added beside an existing span (0 for opened)"),
+				c("entrance", tx, "for work lateral: the entrance whose counted lateral is built"),
 			}},
 		{Name: LayerStructures, Geometry: gpkgout.Point,
 			Description: "handholes the plan adds: at junctions without a structure, and pull points on spans",
 			Columns: []gpkgout.Column{
 				c("junction", tx, "junction id; none for a pull point on a span"),
 				c("span", tx, "span id of a pull point on a span"), c("at_m", re, "its distance from the span's from end, metres"),
-				c("purpose", tx, "join (an opened pathway joins there), turn (a route turns between pathways) or pull (the pulling plan needs a pull point)"),
+				c("purpose", tx, "join (an opened pathway joins there), turn (a route turns between pathways), run (along new construction, at the design's spacing or bend budget) or pull (the pulling plan needs a pull point)"),
 				c("links_text", tx, "links whose legs turn or are pulled there, joined by |"),
 			}},
 		{Name: LayerBuildings, Geometry: gpkgout.MultiPolygon,
@@ -242,7 +245,26 @@ func planGeoPackage(ctx context.Context, r *route.Result) ([]byte, error) {
 		if method != geo.MethodBore {
 			surface = items.SurfaceOf(&sp)
 		}
-		add(LayerConstruction, sp.Line, sp.ID, sp.PathwayID, w.kind, method, surface, round1(sp.LengthM), w.added)
+		add(LayerConstruction, sp.Line, sp.ID, sp.PathwayID, w.kind, method, surface, round1(sp.LengthM), w.added, nil)
+	}
+	// Counted laterals the plan builds to the entrances it uses, as the estimate counts them.
+	for _, en := range r.Estimate.Construction.Entrances {
+		if en.LateralM <= 0 {
+			continue
+		}
+		var line gpkgout.Geometry
+		for _, e := range net.EntrancesOf(en.Building) {
+			if e.ID == en.Entrance && len(e.Lateral) > 1 {
+				line = e.Lateral
+			}
+		}
+		lat := &geo.Span{Type: geo.TypeDuct, LengthM: en.LateralM}
+		method := items.MethodOf(r.Engine.PriceBook(), lat)
+		var surface any
+		if method != geo.MethodBore {
+			surface = items.SurfaceOf(lat)
+		}
+		add(LayerConstruction, line, nil, nil, WorkLateral, method, surface, round1(en.LateralM), 0, en.Entrance)
 	}
 
 	// Handholes the plan adds: where routes join or turn, then the pulling plan's.
@@ -258,6 +280,13 @@ func planGeoPackage(ctx context.Context, r *route.Result) ([]byte, error) {
 			purpose = PurposeJoin
 		}
 		add(LayerStructures, j.Point, h.Junction, nil, nil, purpose, ListText(turnLinks[h.Junction]))
+	}
+	for _, h := range r.Estimate.Construction.RunHandholes {
+		sp, ok := net.Span(h.Span)
+		if !ok {
+			return nil, fmt.Errorf("handhole along new construction on %s: not a span of the network", h.Span)
+		}
+		add(LayerStructures, sp.PointAt(h.AtM), nil, h.Span, round1(h.AtM), PurposeRun, ListText(spanLinks[h.Span]))
 	}
 	for _, p := range addedPullPoints(r) {
 		if p.junction != "" {

@@ -183,6 +183,11 @@ func ParseCents(s string) (int64, error) {
 	return c, nil
 }
 
+// MinHandholeSpacingM is the closest design.handhole_spacing_m may place handholes along new
+// construction, in metres: closer is a slip of unit, not a design (common practice, no
+// published source).
+const MinHandholeSpacingM = 10
+
 // Default are the values a plan gets for what it leaves out.
 var Default = Plan{
 	Defaults: Defaults{Rate: "10G", Strands: 12, Growth: 0.5, Redundancy: RedundancyNone},
@@ -344,6 +349,9 @@ func (p *Plan) validate(errs *input.Problems) {
 	}
 	if g.Objective != ObjectiveCost && g.Objective != ObjectiveLength {
 		bad("design.objective", input.ErrBadValue, "want %q or %q, got %q", ObjectiveCost, ObjectiveLength, g.Objective)
+	}
+	if !reported("design.handhole_spacing_m") && g.HandholeSpacingM > 0 && g.HandholeSpacingM < MinHandholeSpacingM {
+		bad("design.handhole_spacing_m", input.ErrBadValue, "want 0 (no limit) or at least %g metres, got %g", float64(MinHandholeSpacingM), g.HandholeSpacingM)
 	}
 	switch {
 	case reported("design.innerduct_od_mm", "design.innerduct_id_mm"):

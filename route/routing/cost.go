@@ -266,7 +266,7 @@ func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, []de
 		// demand's (demand).
 		loops := (items.LoopM(s, d, sp.From) + items.LoopM(s, d, sp.To)) / 2
 		pull, entered := halves(sp.From, sp.To)
-		hh := float64(runHH[sp.ID])
+		hh := float64(runHH[sp.ID]) + items.JoinEnds(s, sp)
 		e := optimize.Edge{ID: sp.ID, From: int(u), To: int(v), LengthM: sp.LengthM, CableM: items.Wasted(d, sp.LengthM+loops),
 			PerCableCents: m.cents(items.AlongSpan(d, sp.Type, sp.LengthM)...) + m.cents(items.StructureLoops(loops)...) +
 				m.cents(items.AtJunctions(m.prices, pull+hh, entered+hh)...) + m.bidPer(media.BidBases{Structures: 1}, entered),
@@ -301,7 +301,7 @@ func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, []de
 		case edgeEntrance:
 			e.ID, e.Group = "entrance "+x.entry.ID+" of "+x.building, x.group
 			if lat := x.entry.LateralM; lat > 0 {
-				// The entrance's lateral: cable and its buried pull, outdoors.
+				// The entrance's lateral: cable and its pull in the duct the plan builds, outdoors.
 				e.LengthM, e.CableM = lat, items.Wasted(d, lat)
 				e.PerCableCents = m.cents(items.LegEnds(0, 0, lat)...)
 				e.Flags = m.classBit[lateralClass]
@@ -332,7 +332,7 @@ func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, []de
 	// An entrance of a building with several is paid once when a route uses it (those of a
 	// building with one are paid whatever the routes: Routed.ConstantCents).
 	for _, en := range lay.entrances {
-		c, err := m.entranceCents(en.entry.LateralM)
+		c, err := m.entranceCents(en.building, en.entry)
 		if err != nil {
 			return nil, nil, err
 		}
@@ -341,7 +341,7 @@ func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, []de
 		}
 	}
 	for _, b := range slices.Sorted(maps.Keys(lay.endEntry)) {
-		if _, err := m.entranceCents(lay.endEntry[b].LateralM); err != nil {
+		if _, err := m.entranceCents(b, lay.endEntry[b]); err != nil {
 			return nil, nil, err // a counted lateral the book cannot price as new construction
 		}
 	}
@@ -523,10 +523,14 @@ func (m *Model) bidPer(bases media.BidBases, amount float64) int64 {
 // entranceCents is what using a building entrance costs whatever the cables in it: its entry
 // and its counted lateral built (items.Entrance), with the bid items per metre of new buried
 // work along the lateral.
-func (m *Model) entranceCents(lateralM float64) (int64, error) {
+func (m *Model) entranceCents(building string, e geo.Entry) (int64, error) {
+	lateralM := e.LateralM
 	work := items.Entrance(m.prices, m.design, lateralM)
 	if err := m.prices.Check(items.KeysOf(work)); err != nil {
-		return 0, err
+		if lateralM > 0 {
+			return 0, fmt.Errorf("building %s, entrance %s: its counted lateral of %.1f m is built as new construction: %w", building, e.ID, lateralM, err)
+		}
+		return 0, fmt.Errorf("building %s, entrance %s: %w", building, e.ID, err)
 	}
 	return m.cents(work...) + m.bidPer(media.BidBases{NewBuriedM: 1}, lateralM), nil
 }

@@ -7,6 +7,7 @@ import (
 	"slices"
 	"strings"
 
+	"spanwright/geo"
 	"spanwright/route/internal/ctxio"
 	"spanwright/route/optimize"
 	"spanwright/route/site"
@@ -99,7 +100,7 @@ func Solve(ctx context.Context, s *site.Site, m *Model, links []site.Link) (*Rou
 	r.Entrances = entrancesUsed(lay, r.Legs)
 	for _, e := range r.Entrances {
 		if e.Single {
-			c, _ := m.entranceCents(e.LateralM) // checked by problem
+			c, _ := m.entranceCents(e.Building, geo.Entry{ID: e.Entrance, Access: geo.Access{LateralM: e.LateralM}}) // checked by problem
 			r.ConstantCents += c
 		}
 	}

@@ -7,8 +7,10 @@ import (
 	"spanwright/geo"
 )
 
-// NewRun is a run of new construction: proposed spans joined end to end at junctions where
-// nothing else meets (no structure, no entrance, no third span). A route that takes one of
+// NewRun is a run of new construction: proposed duct spans joined end to end at junctions
+// where nothing else meets (no structure, no entrance, no third span). Proposed pathways of
+// other types (tunnel, tray, aerial, direct-buried) are not pulled through a duct and get no
+// handholes. A route that takes one of
 // its spans takes them all, so a plan opens a run whole or not at all, and its pull points are
 // placed along the whole run: a pathway split at a vertex is the same run.
 type NewRun struct {
@@ -27,8 +29,8 @@ type RunHandhole struct {
 }
 
 // runInterior marks the junctions inside runs of new construction: a plain junction (no
-// structure, not an entrance) where exactly two span ends meet, both of proposed spans, of
-// two different spans.
+// structure, not an entrance) where exactly two span ends meet, both of proposed duct spans,
+// of two different spans.
 func runInterior(net *geo.Network, junction map[string]int, entrance map[string]bool) []bool {
 	ends := make([]int, len(net.Junctions))
 	proposed := make([]int, len(net.Junctions))
@@ -37,7 +39,7 @@ func runInterior(net *geo.Network, junction map[string]int, entrance map[string]
 		for _, j := range [2]string{sp.From, sp.To} {
 			k := junction[j]
 			ends[k]++
-			if sp.Status == geo.StatusProposed && sp.From != sp.To {
+			if newDuct(sp) && sp.From != sp.To {
 				proposed[k]++
 			}
 		}
@@ -60,16 +62,17 @@ func (s *Site) InRun(j string) bool {
 // no pull section along it is longer than spacingM (0: no limit) or bends more than
 // bendBudgetDeg (0: no limit) in all. Handholes are placed greedily from the run's first end,
 // as far as each limit allows: the fewest a run can have. A bend at a handhole is taken inside
-// it and counts towards neither section. A run is walked from the end nearer the south-west
-// (the smaller longitude, then latitude), so that ids and drawing direction decide nothing; a
-// closed ring of new spans starts at its south-western junction. Runs are listed by their first
+// it and counts towards neither section. A run is walked from its westmost end (the smaller
+// longitude, then latitude; for a loop whose ends are one junction, the end whose first vertex
+// is westmost), so that ids and drawing direction decide nothing; a closed ring of new spans
+// starts at its westmost junction. Runs are listed by their first
 // span's index. Time O(spans + vertices).
 func (s *Site) NewRuns(spacingM, bendBudgetDeg float64) []NewRun {
 	net := s.Net
 	spansAt := make([][]int, len(net.Junctions))
 	for i := range net.Spans {
 		sp := &net.Spans[i]
-		if sp.Status != geo.StatusProposed {
+		if !newDuct(sp) {
 			continue
 		}
 		spansAt[s.junction[sp.From]] = append(spansAt[s.junction[sp.From]], i)
@@ -112,7 +115,7 @@ func (s *Site) NewRuns(spacingM, bendBudgetDeg float64) []NewRun {
 	// Runs with ends: walk each from its better end.
 	for i := range net.Spans {
 		sp := &net.Spans[i]
-		if sp.Status != geo.StatusProposed || done[i] {
+		if !newDuct(sp) || done[i] {
 			continue
 		}
 		// Find both ends of the run through span i.
@@ -122,14 +125,20 @@ func (s *Site) NewRuns(spacingM, bendBudgetDeg float64) []NewRun {
 			continue // a closed ring: below
 		}
 		start, first := endA.junction, endA.span
-		if pos(endB.junction).less(pos(endA.junction)) {
+		a, b := pos(endA.junction), pos(endB.junction)
+		if endA.junction == endB.junction {
+			// Both ends at one junction (a loop off it): from the end whose first vertex away
+			// from the junction lies further west, then further south.
+			a, b = s.awayFrom(endA), s.awayFrom(endB)
+		}
+		if b.less(a) {
 			start, first = endB.junction, endB.span
 		}
 		runs = append(runs, walk(start, first))
 	}
-	// Closed rings of new spans: start at the south-western junction.
+	// Closed rings of new spans: start at the westmost junction.
 	for i := range net.Spans {
-		if net.Spans[i].Status != geo.StatusProposed || done[i] {
+		if !newDuct(&net.Spans[i]) || done[i] {
 			continue
 		}
 		best, bestSpan := "", -1
@@ -156,7 +165,20 @@ func (s *Site) NewRuns(spacingM, bendBudgetDeg float64) []NewRun {
 	return runs
 }
 
-// lonLat is a position, compared south-west first.
+// newDuct reports whether a span is new duct: a proposed duct pathway.
+func newDuct(sp *geo.Span) bool { return sp.Status == geo.StatusProposed && sp.Type == geo.TypeDuct }
+
+// awayFrom is the first vertex of the run's end span away from its end junction.
+func (s *Site) awayFrom(e runEndAt) lonLat {
+	sp := &s.Net.Spans[e.span]
+	p := sp.Line[1]
+	if sp.To == e.junction && sp.From != e.junction {
+		p = sp.Line[len(sp.Line)-2]
+	}
+	return lonLat{p[0], p[1]}
+}
+
+// lonLat is a position, compared westmost first, then southmost.
 type lonLat [2]float64
 
 func (a lonLat) less(b lonLat) bool { return a[0] < b[0] || (a[0] == b[0] && a[1] < b[1]) }
