@@ -26,6 +26,9 @@ func newWorkCampus(lateral bool, pathways ...[]float64) string {
 	}
 	f := []string{testsite.Box("A", "mc", 0, 0)}
 	end := pathways[len(pathways)-1]
+	if len(end)%2 == 1 {
+		end = end[1:]
+	}
 	if len(pathways) > 1 && end[0] > end[len(end)-2] {
 		end = end[:2] // drawn towards the first pathway: C is at its first point
 	}
@@ -34,8 +37,13 @@ func newWorkCampus(lateral bool, pathways ...[]float64) string {
 		f = append(f, testsite.Box("B", "", 300, 25))
 	}
 	for i, p := range pathways {
-		f = append(f, fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":"P%d","type":"duct","status":"proposed","method":"trench","duct_mm":100},"geometry":{"type":"LineString","coordinates":%s}}`,
-			i+1, line(p)))
+		props := `"type":"duct","status":"proposed","method":"trench","duct_mm":100`
+		if len(p)%2 == 1 { // a leading 0 marks an existing duct, a leading 1 proposed aerial
+			props = map[float64]string{0: `"type":"duct","spare_ducts":2,"duct_mm":100`, 1: `"type":"aerial","status":"proposed"`}[p[0]]
+			p = p[1:]
+		}
+		f = append(f, fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":"P%d",%s},"geometry":{"type":"LineString","coordinates":%s}}`,
+			i+1, props, line(p)))
 	}
 	return `{"type":"FeatureCollection","features":[` + strings.Join(f, ",") + `]}`
 }
@@ -110,7 +118,7 @@ func TestHandholesAlongNewRun(t *testing.T) {
 			}
 			// The crew: a set-up per section, an entry per handhole, two cable ends.
 			for item, q := range map[string]float64{
-				"crew set-up, per pull":                    float64(want + 1),
+				"crew set-up, per pull":                            float64(want + 1),
 				"crew entry into a structure, per cable":           float64(want),
 				"cable end preparation":                            2,
 				"building entrance: penetration, sleeve, firestop": 2,
@@ -222,5 +230,60 @@ func TestNoNewTrenchNoAddedDuct(t *testing.T) {
 		if f.AddedDucts > 0 {
 			t.Errorf("span %s: %d ducts added", f.Span, f.AddedDucts)
 		}
+	}
+}
+
+// TestBendAtHandholeTakenInside: bends of 100°, 100°, 90° and 90° along a new run with the
+// 180° budget (TIA-569, two 90° bends): one handhole at the second bend, where the bend is
+// taken inside it, so the pulls after it bend 180° and the pulling plan adds no pull point of
+// its own (the optimizer priced the one handhole only).
+func TestBendAtHandholeTakenInside(t *testing.T) {
+	t.Parallel()
+	campus := newWorkCampus(false, []float64{10, 0, 100, 0, 82.64, 98.48, 182.64, 98.48, 182.64, 198.48, 282.64, 198.48})
+	r := solveNewWork(t, campus, func(p *plan.Plan) { p.Design.HandholeSpacingM = 0 })
+	if n := len(r.Estimate.Construction.RunHandholes); n != 1 {
+		t.Fatalf("handholes along the run: %d, want 1", n)
+	}
+	if r.Estimate.AddedPullPoints != 0 {
+		t.Errorf("the pulling plan added %d pull points", r.Estimate.AddedPullPoints)
+	}
+	for _, ps := range r.Estimate.Pulls {
+		if ps.LengthM < 1 || ps.BendDeg > 180+1e-6 {
+			t.Errorf("pull %d from %s to %s: %.2f m, %.1f° of bends", ps.Seq, ps.From, ps.To, ps.LengthM, ps.BendDeg)
+		}
+	}
+}
+
+// TestJoinHandholeIsPullPoint: 120 m of existing duct, then 590 m of new duct: the handhole
+// where the new duct joins is a pull point, so the spacing along the run counts from it and no
+// pull is longer than 150 m; the crew sets up one pull per section.
+func TestJoinHandholeIsPullPoint(t *testing.T) {
+	t.Parallel()
+	campus := newWorkCampus(false, []float64{0, 10, 0, 130, 0}, []float64{130, 0, 720, 0})
+	r := solveNewWork(t, campus, nil)
+	con := r.Estimate.Construction
+	if len(con.NewJunctions) != 1 || len(con.RunHandholes) != 3 {
+		t.Fatalf("join handholes %v, along the run %v: want 1 and 3", con.NewJunctions, con.RunHandholes)
+	}
+	for _, ps := range r.Estimate.Pulls {
+		if ps.LengthM > 150+1e-6 {
+			t.Errorf("pull %d from %s to %s: %.2f m", ps.Seq, ps.From, ps.To, ps.LengthM)
+		}
+	}
+	if n := len(r.Estimate.Pulls); n != 5 || r.Estimate.AddedPullPoints != 0 {
+		t.Errorf("%d pull sections, %d added pull points: want 5 and 0", n, r.Estimate.AddedPullPoints)
+	}
+	if got := testplan.BOMQty(r.Estimate.BOM, "crew set-up, per pull"); got != 5 {
+		t.Errorf("crew set-ups: %v, want 5", got)
+	}
+}
+
+// TestNoHandholesOnNewAerial: a proposed pole line is not pulled through a duct: no handholes
+// along it, whatever its length.
+func TestNoHandholesOnNewAerial(t *testing.T) {
+	t.Parallel()
+	r := solveNewWork(t, newWorkCampus(false, []float64{1, 10, 0, 600, 0}), func(p *plan.Plan) { p.Design.AllowOutdoorCopper = false })
+	if len(r.Opened) != 1 || len(r.Estimate.Construction.RunHandholes) != 0 {
+		t.Errorf("opened %v, handholes %v: want the pole line opened without handholes", r.Opened, r.Estimate.Construction.RunHandholes)
 	}
 }
