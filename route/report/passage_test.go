@@ -50,7 +50,7 @@ func TestPlanPassage(t *testing.T) {
 		`class="st turn"><title>HH-1: handhole to add, where a route turns between pathways (A-C primary)</title>`,
 		`<span class="small entrances">entrances A:1 → C:1</span>`,
 		`<span class="small crosses">Passes through buildings B</span>`,
-		`<span class="small turns">Turns between pathways at J0002, HH-1, where a handhole is added</span>`,
+		`<span class="small turns">Turns between pathways at HH-1, J0002, where a handhole is added</span>`,
 		"> building a route passes through</li>", "> handhole to add (a route turns between pathways, or new pathway joins)</li>",
 		"> building entrance</li>", "> entrance a leg uses</li>",
 		"<title>A:1: entrance of A (pathway end at the footprint), used by 2 legs</title>",
@@ -93,7 +93,7 @@ func TestPlanPassagePayloads(t *testing.T) {
 		"<title>&lt;hh&amp;&gt;: handhole to add, where a route turns between pathways (&lt;b&gt;A-C&lt;U+202E&gt; primary)</title>",
 		`<span class="small entrances">entrances &lt;b&gt;A:1 → C&lt;U+202E&gt;:1</span>`,
 		`<span class="small crosses">Passes through buildings B&#34;&gt;&lt;script&gt;x()&lt;/script&gt;</span>`,
-		`<span class="small turns">Turns between pathways at J0002, &lt;hh&amp;&gt;, where a handhole is added</span>`,
+		`<span class="small turns">Turns between pathways at &lt;hh&amp;&gt;, J0002, where a handhole is added</span>`,
 	} {
 		if !strings.Contains(html, want) {
 			t.Errorf("report lacks the escaped text %q", want)

@@ -531,21 +531,17 @@ func legRows(r *route.Result, opt Options, med map[string]mediumInfo, names map[
 	var bad, good []legRow
 	for i := range r.Legs {
 		l := &r.Legs[i]
+		pathways, crosses, turns := output.LegLists(r.Site.Net, l) // from→to, as every output lists them
 		row := legRow{Link: l.Link.ID, Leg: l.Name, From: l.Link.From, To: l.Link.To,
 			FromName: names[l.Link.From], ToName: names[l.Link.To], Rate: l.Link.Rate, Feasible: l.Feasible,
 			Application: l.Application, Construction: l.ConstructionText(), Strands: strconv.Itoa(l.StrandsCable),
 			Route: opt.length(l.RouteM), Lat: opt.length(l.LateralM), Riser: opt.length(l.RiserM),
 			Cost: money(l.Cost.TotalCents()), EntranceFrom: l.EntranceFrom, EntranceTo: l.EntranceTo,
-			Crosses: l.Crosses, Turns: l.Turns}
+			Crosses: crosses, Turns: turns}
 		if l.Link.FutureRate != "" {
 			row.Rate += " → " + l.Link.FutureRate
 		}
-		for j, p := range l.Pathways {
-			if j > 0 {
-				row.Pathways += " "
-			}
-			row.Pathways += p
-		}
+		row.Pathways = strings.Join(pathways, " ")
 		if l.Feasible {
 			row.Reason = output.InUnits(output.WriteOptions{Units: opt.Units}, l.Choice)
 			for _, rj := range l.Rejected {
