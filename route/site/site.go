@@ -26,6 +26,8 @@ type Site struct {
 	spanPart []int           // the same by spans alone (SpanPart)
 	entrance map[string]bool // junction IDs of every entrance and access (JoinsNetwork)
 	dist     sync.Map        // building ID → map[string]float64, see distancesFrom
+	adjOnce  sync.Once
+	adj      *adjacency // junctions joined by spans (spanAdjacency)
 
 	// Solved keeps the optimizer's solutions of the routing problems solved on this site, by
 	// fingerprint of the canonical problem (see package routing), and Pulls the pull plans of
