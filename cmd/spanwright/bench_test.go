@@ -42,4 +42,3 @@ func BenchmarkCommands(b *testing.B) {
 		}
 	}
 }
-
