@@ -194,6 +194,7 @@ func (s *Site) search(from, hub string) (reached, []string) {
 	seen := make(reached, len(s.Net.Junctions))
 	var queue []int
 	var met []string
+	isMet := map[string]bool{}
 	for _, e := range s.Net.EntrancesOf(from) {
 		if j := s.junction[e.Junction]; !seen[j] {
 			seen[j] = true
@@ -209,7 +210,8 @@ func (s *Site) search(from, hub string) (reached, []string) {
 				if b == from || b == hub {
 					continue
 				}
-				if !slices.Contains(met, b) {
+				if !isMet[b] {
+					isMet[b] = true
 					met = append(met, b)
 				}
 				stop = stop || !open(b)
