@@ -23,13 +23,13 @@ import (
 func BenchmarkCommands(b *testing.B) {
 	for _, n := range []int{1000, 5000} {
 		dir := ""
-		campus := func(b *testing.B) string {
+		campus := func(sb *testing.B) string {
 			if dir == "" {
-				dir = b.TempDir()
+				dir = b.TempDir() // the parent's: it outlives each sub-benchmark
 				gen := exec.Command("go", "run", "./route/internal/campusgen/campusfiles", "-buildings", strconv.Itoa(n), "-out", dir)
 				gen.Dir = filepath.Join("..", "..")
 				if out, err := gen.CombinedOutput(); err != nil {
-					b.Fatalf("generating the campus: %v\n%s", err, out)
+					sb.Fatalf("generating the campus: %v\n%s", err, out)
 				}
 			}
 			return filepath.Join(dir, "plan.yaml")
