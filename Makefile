@@ -3,7 +3,7 @@
 GO ?= go
 BIN := bin/spanwright
 
-.PHONY: build build-proj test test-proj lint race soak demo golden bench fuzz e2e clean
+.PHONY: build build-proj test test-proj lint race soak demo golden bench bench-campus fuzz e2e clean
 
 build:
 	$(GO) build -o $(BIN) ./cmd/spanwright
@@ -63,6 +63,20 @@ golden:
 bench:
 	$(GO) test -run '^$$' -bench . -benchmem ./...
 
+# check and plan of the binary on generated campuses of 1,000 and 5,000 buildings that look
+# like real ones (route/internal/campusgen/campusfiles), timed with GNU time for the peak
+# memory; the files go to bench-out/. The same runs as Go benchmarks, one core:
+#   go test -run '^$$' -bench Commands -benchmem -benchtime 1x -count 3 -cpu 1 ./cmd/spanwright/
+bench-campus: build
+	@for n in 1000 5000; do \
+		$(GO) run ./route/internal/campusgen/campusfiles -buildings $$n -out bench-out/campus$$n || exit 1; \
+		/usr/bin/time -o bench-out/time -f "check $$n buildings: %e s wall, %U s user, %M KiB peak" \
+			./$(BIN) check bench-out/campus$$n/plan.yaml >/dev/null || exit 1; cat bench-out/time; \
+		/usr/bin/time -o bench-out/time -f "plan $$n buildings: %e s wall, %U s user, %M KiB peak" \
+			./$(BIN) plan --out bench-out/plan$$n bench-out/campus$$n/plan.yaml >/dev/null 2>bench-out/plan$$n.err; \
+		st=$$?; cat bench-out/time; [ $$st -eq 0 ] || [ $$st -eq 3 ] || { cat bench-out/plan$$n.err; exit 1; }; \
+	done
+
 # the HTML reports in a real browser (not part of make test): installs Debian's chromium and
 # poppler-utils (pdftotext, to read the printed pages back) when missing, renders the demo's
 # and the starter's report.html and two sweeps' compare.html headless to PNG and PDF in
@@ -78,4 +92,4 @@ fuzz:
 	$(GO) test -run '^$$' -fuzz FuzzParsePlan -fuzztime 60s ./route/plan/
 
 clean:
-	rm -rf bin demo-out
+	rm -rf bin demo-out bench-out

@@ -122,7 +122,15 @@ func pull(steps []Step, reverse bool, w, mu, tIn float64) Result {
 	if err := Validate(steps, w, mu, tIn); err != nil {
 		panic("install: invalid pull, call Validate first: " + err.Error())
 	}
-	r := Result{MaxTensionN: tIn, PerStepN: make([]float64, len(steps))}
+	return tension(steps, reverse, w, mu, tIn, true)
+}
+
+// tension is pull on steps already validated; PerStepN is left nil unless perStep.
+func tension(steps []Step, reverse bool, w, mu, tIn float64, perStep bool) Result {
+	r := Result{MaxTensionN: tIn}
+	if perStep {
+		r.PerStepN = make([]float64, len(steps))
+	}
 	t := tIn
 	for k := range steps {
 		s, sign := steps[k], 1.0
@@ -142,7 +150,9 @@ func pull(steps []Step, reverse bool, w, mu, tIn float64) Result {
 			t *= math.Exp(mu * s.AngleDeg * math.Pi / 180)
 			r.MaxSWBPNPerM = math.Max(r.MaxSWBPNPerM, t/s.RadiusM)
 		}
-		r.PerStepN[k] = t
+		if perStep {
+			r.PerStepN[k] = t
+		}
 		r.MaxTensionN = math.Max(r.MaxTensionN, t)
 	}
 	r.TOutN = t

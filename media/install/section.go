@@ -188,10 +188,9 @@ func (sp PullSpec) cut(s Step, origin int, startM float64) []piece {
 	return whole
 }
 
-// merge turns consecutive pieces back into steps: whole steps stay exact, parts of one
-// straight are joined.
-func merge(pcs []piece) []Step {
-	var steps []Step
+// merge turns consecutive pieces back into steps, appended to dst: whole steps stay exact,
+// parts of one straight are joined.
+func merge(dst []Step, pcs []piece) []Step {
 	for i := 0; i < len(pcs); {
 		j := i + 1
 		for j < len(pcs) && pcs[j].origin == pcs[i].origin {
@@ -201,34 +200,17 @@ func merge(pcs []piece) []Step {
 		if n := j - i; n != pcs[i].parts {
 			s.LengthM = s.LengthM / float64(pcs[i].parts) * float64(n)
 		}
-		steps = append(steps, s)
+		dst = append(dst, s)
 		i = j
 	}
-	return steps
+	return dst
 }
 
 // evaluate plans the pull of one section made of pcs (len(pcs) > 0); Span and the Added flags
 // are left for the caller.
 func (sp PullSpec) evaluate(pcs []piece) Section {
-	sec := Section{Steps: merge(pcs), StartM: pcs[0].startM}
-	for _, s := range sec.Steps {
-		sec.LengthM += s.LengthM
-		if s.Kind == KindBend {
-			sec.BendDeg += s.AngleDeg
-		}
-	}
-	sec.Forward, sec.Reverse, sec.Best = PullBothWays(sec.Steps, sp.WNPerM, sp.Mu, sp.TInN)
-	if fok, rok := sp.pullOK(sec.Forward), sp.pullOK(sec.Reverse); fok != rok {
-		sec.Best = Forward
-		if rok {
-			sec.Best = Reverse
-		}
-	}
-	best := sec.Forward
-	if sec.Best == Reverse {
-		best = sec.Reverse
-	}
-	sec.MaxTensionN, sec.MaxSWBPNPerM = best.MaxTensionN, best.MaxSWBPNPerM
+	sec := sp.measure(merge(nil, pcs), true)
+	sec.StartM = pcs[0].startM
 
 	var why []string
 	if sec.MaxTensionN > sp.MaxTensionN {
@@ -244,7 +226,40 @@ func (sp PullSpec) evaluate(pcs []piece) Section {
 		why = append(why, fmt.Sprintf("length %.1f m over %.1f m between pull points", sec.LengthM, sp.MaxLengthM))
 	}
 	sec.Reason = strings.Join(why, "; ")
-	sec.WithinRating = len(why) == 0
+	return sec
+}
+
+// measure plans the pull of a section of steps (validated by Sections): lengths, bends, both
+// pulls, the best one and whether it is within rating, with the same arithmetic as evaluate
+// but without the reason, and without the per-step tensions unless perStep. Steps holds
+// steps, which the caller may reuse when it keeps only the figures.
+func (sp PullSpec) measure(steps []Step, perStep bool) Section {
+	sec := Section{Steps: steps}
+	for _, s := range steps {
+		sec.LengthM += s.LengthM
+		if s.Kind == KindBend {
+			sec.BendDeg += s.AngleDeg
+		}
+	}
+	sec.Forward = tension(steps, false, sp.WNPerM, sp.Mu, sp.TInN, perStep)
+	sec.Reverse = tension(steps, true, sp.WNPerM, sp.Mu, sp.TInN, perStep)
+	sec.Best = Forward // as PullBothWays
+	if sec.Reverse.MaxTensionN < sec.Forward.MaxTensionN {
+		sec.Best = Reverse
+	}
+	if fok, rok := sp.pullOK(sec.Forward), sp.pullOK(sec.Reverse); fok != rok {
+		sec.Best = Forward
+		if rok {
+			sec.Best = Reverse
+		}
+	}
+	best := sec.Forward
+	if sec.Best == Reverse {
+		best = sec.Reverse
+	}
+	sec.MaxTensionN, sec.MaxSWBPNPerM = best.MaxTensionN, best.MaxSWBPNPerM
+	sec.WithinRating = !(sec.MaxTensionN > sp.MaxTensionN) && !(sp.MaxSWBPNPerM > 0 && sec.MaxSWBPNPerM > sp.MaxSWBPNPerM) &&
+		!sp.bendsOver(sec) && !sp.lengthOver(sec)
 	return sec
 }
 
@@ -289,12 +304,14 @@ func (sp PullSpec) partition(pcs []piece) []Section {
 	}
 	dp := make([]score, n+1)
 	dp[0].set = true
+	var buf []Step // the section's steps, reused: the search keeps only its figures
 	for i := 0; i < n; i++ {
 		if !dp[i].set {
 			continue
 		}
 		for j := i + 1; j <= n; j++ {
-			sec := sp.evaluate(pcs[i:j])
+			buf = merge(buf[:0], pcs[i:j])
+			sec := sp.measure(buf, false)
 			if sec.WithinRating || j == i+1 {
 				c := score{bad: dp[i].bad, sections: dp[i].sections + 1, maxTensionN: math.Max(dp[i].maxTensionN, sec.MaxTensionN), prev: i, set: true}
 				if !sec.WithinRating {

@@ -345,3 +345,46 @@ func TestSectionsBadInput(t *testing.T) {
 		t.Errorf("got\n%s\nwant\n%s", got, strings.Join(want, "\n"))
 	}
 }
+
+// TestMeasureIsEvaluate: the figures partition's search reads from measure (no per-step
+// tensions, no reason, steps in a reused buffer) are evaluate's, bit for bit, on random
+// sections of level and inclined runs with bends, cut straights and every limit in play, so
+// the pull plan cannot depend on which one the search used. The reference is evaluate, whose
+// arithmetic the tests above hold to the capstan equation (REFERENCES.md, seen).
+func TestMeasureIsEvaluate(t *testing.T) {
+	t.Parallel()
+	r := uint64(12345)
+	next := func() float64 { // a small LCG: the same sections every run
+		r = r*6364136223846793005 + 1442695040888963407
+		return float64(r>>11) / (1 << 53)
+	}
+	spec := PullSpec{WNPerM: 3.432, Mu: 0.35, MaxTensionN: 2670, TInN: 50, MaxLengthM: 150, MaxSWBPNPerM: 1500}
+	var buf []Step
+	for trial := 0; trial < 2000; trial++ {
+		var pcs []piece
+		for k := 0; k < 1+int(next()*12); k++ {
+			if next() < 0.3 {
+				pcs = append(pcs, piece{step: Step{Kind: KindBend, AngleDeg: 90 * next(), RadiusM: 0.3 + next()}, origin: k, parts: 1})
+				continue
+			}
+			s := Step{Kind: KindStraight, LengthM: 400 * next()}
+			if next() < 0.3 {
+				s.InclineDeg = 20*next() - 10
+			}
+			parts := 1 + int(next()*3)
+			for p := 0; p < parts; p++ {
+				if p == 0 || next() < 0.8 {
+					pcs = append(pcs, piece{step: s, origin: k, part: p, parts: parts})
+				}
+			}
+		}
+		want := spec.evaluate(pcs)
+		buf = merge(buf[:0], pcs)
+		got := spec.measure(buf, false)
+		if got.LengthM != want.LengthM || got.BendDeg != want.BendDeg || got.MaxTensionN != want.MaxTensionN ||
+			got.MaxSWBPNPerM != want.MaxSWBPNPerM || got.Best != want.Best || got.WithinRating != want.WithinRating ||
+			(want.Reason == "") != want.WithinRating || !slices.Equal(got.Steps, want.Steps) {
+			t.Fatalf("trial %d: measure %+v, evaluate %+v", trial, got, want)
+		}
+	}
+}

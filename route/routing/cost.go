@@ -1,12 +1,10 @@
 package routing
 
 import (
-	"cmp"
 	"fmt"
 	"maps"
 	"math"
 	"slices"
-	"sort"
 	"strings"
 
 	"spanwright/geo"
@@ -53,11 +51,7 @@ type Model struct {
 	prices      *media.PriceBook
 	design      plan.Design
 	allowedMemo map[allowedKey]bool
-	layout      *layout // the optimizer's graph of the last problem stated (problem)
 	cableMemo   map[cableKey]int64
-	// classes are the span classes of the campus in a fixed order, and classBit each one's flag.
-	classes  []spanClass
-	classBit map[spanClass]uint64
 }
 
 // Edge flags. flagDuct marks a duct edge, so that a cable too large for the design's
@@ -131,7 +125,7 @@ func (m *Model) allowed(medium string, rate, future float64, strands int, c span
 
 // explain puts the optimizer's account of an unroutable demand in the plan's words: options
 // by their medium, excluded edge flags as the span classes the rules keep the medium off.
-func (m *Model) explain(in optimize.Infeasible) string {
+func (lay *layout) explain(in optimize.Infeasible) string {
 	if len(in.Options) == 0 {
 		return in.Reason
 	}
@@ -145,8 +139,8 @@ func (m *Model) explain(in optimize.Infeasible) string {
 			if f.ExcludeFlags&flagDuct != 0 {
 				off = append(off, "ducts (the cable does not fit the innerduct)")
 			}
-			for _, c := range m.classes {
-				if f.ExcludeFlags&m.classBit[c] != 0 {
+			for _, c := range lay.classes {
+				if f.ExcludeFlags&lay.classBit[c] != 0 {
 					off = append(off, c.String())
 				}
 			}
@@ -187,45 +181,11 @@ func NewModel(eng *media.Engine, d plan.Design) (*Model, error) {
 	return m, nil
 }
 
-// problem builds the optimizer's problem: one edge per span (same index), one demand per link.
-func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, []demandInfo, error) {
+// problem builds the optimizer's problem: one edge per span (same index), one demand per link;
+// and the site's graph it is drawn on (layoutOf).
+func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, *layout, []demandInfo, error) {
 	net := s.Net
-	groups := map[string]int{}
-	var names []string
-	for _, sp := range net.Spans {
-		if _, ok := groups[sp.Group]; !ok && sp.Group != "" {
-			groups[sp.Group] = 0
-			names = append(names, sp.Group)
-		}
-	}
-	sort.Strings(names)
-	for i, n := range names {
-		groups[n] = i + 1
-	}
-	lay := newLayout(s, len(names)+1)
-	m.classes, m.classBit = nil, map[spanClass]uint64{}
-	for i := range net.Spans {
-		if c := classOf(&net.Spans[i]); m.classBit[c] == 0 {
-			m.classBit[c] = 1 // numbered below, in a fixed order
-			m.classes = append(m.classes, c)
-		}
-	}
-	if lay.lateral && m.classBit[lateralClass] == 0 { // entrance edges with a lateral run in this class
-		m.classBit[lateralClass] = 1
-		m.classes = append(m.classes, lateralClass)
-	}
-	slices.SortFunc(m.classes, func(a, b spanClass) int {
-		return cmp.Or(strings.Compare(a.typ, b.typ), strings.Compare(a.emi, b.emi), boolCmp(a.outdoor, b.outdoor), boolCmp(a.plenum, b.plenum))
-	})
-	if len(m.classes) > 62 {
-		// 5 pathway types × 3 EMI levels × outdoors or not × plenum or not is 60 at most.
-		panic(fmt.Sprintf("route: %d span classes do not fit the optimizer's edge flags", len(m.classes)))
-	}
-	for k, c := range m.classes {
-		// At most 5 pathway types × 3 EMI levels × plenum or not: 30 classes, well within
-		// the flags above firstClassFlag.
-		m.classBit[c] = firstClassFlag << k
-	}
+	lay := layoutOf(s)
 	p := &optimize.Problem{Nodes: lay.nodes, AllowNew: m.design.AllowNewTrench,
 		Edges: make([]optimize.Edge, len(net.Spans), len(net.Spans)+len(lay.extra))}
 	if slices.Contains(lay.noTransit, true) {
@@ -242,7 +202,7 @@ func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, []de
 	}
 	if len(runHH) > 0 && d.AllowNewTrench {
 		if err := m.prices.Check(items.KeysOf([]media.Quantity{items.RunHandholes(1)})); err != nil {
-			return nil, nil, err
+			return nil, nil, nil, err
 		}
 	}
 	// Crew labour a cable takes at a junction, as a share of it (items.AtJunctions).
@@ -270,14 +230,14 @@ func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, []de
 		e := optimize.Edge{ID: sp.ID, From: int(u), To: int(v), LengthM: sp.LengthM, CableM: items.Wasted(d, sp.LengthM+loops),
 			PerCableCents: m.cents(items.AlongSpan(d, sp.Type, sp.LengthM)...) + m.cents(items.StructureLoops(loops)...) +
 				m.cents(items.AtJunctions(m.prices, pull+hh, entered+hh)...) + m.bidPer(media.BidBases{Structures: 1}, entered),
-			Group: groups[sp.Group], Flags: m.classBit[classOf(sp)]}
+			Group: lay.groupOf[sp.Group], Flags: lay.classBit[classOf(sp)]}
 		if sp.Type == geo.TypeDuct {
 			e.Flags |= flagDuct
 		}
 		if sp.Status == geo.StatusProposed {
 			open := items.Opening(sp, items.MethodOf(m.prices, sp), d.NewDucts)
 			if err := m.prices.Check(items.KeysOf(open)); err != nil {
-				return nil, nil, err
+				return nil, nil, nil, err
 			}
 			e.Proposed, e.FixedCents = true, m.cents(open...)+m.bidPer(media.BidBases{NewBuriedM: 1}, sp.LengthM)
 			if n := runHH[sp.ID]; n > 0 {
@@ -304,7 +264,7 @@ func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, []de
 				// The entrance's lateral: cable and its pull in the duct the plan builds, outdoors.
 				e.LengthM, e.CableM = lat, items.Wasted(d, lat)
 				e.PerCableCents = m.cents(items.LegEnds(0, 0, lat)...)
-				e.Flags = m.classBit[lateralClass]
+				e.Flags = lay.classBit[lateralClass]
 			}
 			if loop := items.LoopM(s, d, x.junction) / 2; loop > 0 {
 				// The other half of the slack loop at an entrance that is a structure: the
@@ -322,7 +282,7 @@ func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, []de
 	}
 	if len(lay.charges) > 0 {
 		if err := m.prices.Check(items.KeysOf([]media.Quantity{items.JoinHandholes(1)})); err != nil {
-			return nil, nil, err
+			return nil, nil, nil, err
 		}
 		hh := m.cents(items.JoinHandholes(1))
 		for _, c := range lay.charges {
@@ -334,7 +294,7 @@ func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, []de
 	for _, en := range lay.entrances {
 		c, err := m.entranceCents(en.building, en.entry)
 		if err != nil {
-			return nil, nil, err
+			return nil, nil, nil, err
 		}
 		if c > 0 {
 			p.Charges = append(p.Charges, optimize.Charge{ID: "entrance " + en.entry.ID + " of " + en.building, Edges: en.edges, Cents: c})
@@ -342,17 +302,16 @@ func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, []de
 	}
 	for _, b := range slices.Sorted(maps.Keys(lay.endEntry)) {
 		if _, err := m.entranceCents(b, lay.endEntry[b]); err != nil {
-			return nil, nil, err // a counted lateral the book cannot price as new construction
+			return nil, nil, nil, err // a counted lateral the book cannot price as new construction
 		}
 	}
-	m.layout = lay
 	infos := make([]demandInfo, len(links))
 	for i := range links {
-		d, info := demand(s, m, &links[i])
+		d, info := demand(s, m, lay, &links[i])
 		p.Demands = append(p.Demands, d)
 		infos[i] = info
 	}
-	return p, infos, nil
+	return p, lay, infos, nil
 }
 
 // demandInfo is what the pipeline keeps about a link's demand to cost and explain its legs.
@@ -365,10 +324,9 @@ type demandInfo struct {
 }
 
 // demand turns a link into the optimizer's demand with one option per medium that can carry it.
-func demand(s *site.Site, m *Model, l *site.Link) (optimize.Demand, demandInfo) {
+func demand(s *site.Site, m *Model, lay *layout, l *site.Link) (optimize.Demand, demandInfo) {
 	// A building with one entrance ends at it, with its lateral counted here; one with several
 	// ends at its own node, each entrance edge carrying its lateral (layout).
-	lay := m.layout
 	src, dst := lay.endEntry[l.To], lay.endEntry[l.From]
 	srcN, okS := lay.end[l.To]
 	dstN, okD := lay.end[l.From]
@@ -428,9 +386,9 @@ func demand(s *site.Site, m *Model, l *site.Link) (optimize.Demand, demandInfo) 
 			continue
 		}
 		var exclude uint64
-		for _, c := range m.classes {
+		for _, c := range lay.classes {
 			if !m.allowed(med, rate, future, strands, c) {
-				exclude |= m.classBit[c]
+				exclude |= lay.classBit[c]
 			}
 		}
 		maxCh := m.eng.MaxChannelM(med, rate, future, facts)

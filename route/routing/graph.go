@@ -1,9 +1,15 @@
 package routing
 
 import (
+	"cmp"
 	"fmt"
 	"math"
+	"runtime"
 	"slices"
+	"sort"
+	"strings"
+	"sync"
+	"weak"
 
 	"spanwright/geo"
 	"spanwright/route/site"
@@ -84,6 +90,30 @@ type layout struct {
 	entrances []entranceEdges // of buildings with several entrances, in building then entrance order
 	groups    int             // the shared-risk groups the entrance copies use, numbered after the spans'
 	lateral   bool            // some entrance edge carries a lateral
+	// groupOf numbers the spans' shared-risk groups (geo.Span.Group) from 1, in name order.
+	groupOf map[string]int
+	// classes are the span classes of the campus in a fixed order, and classBit each one's
+	// edge flag.
+	classes  []spanClass
+	classBit map[spanClass]uint64
+}
+
+// layouts holds the layout of each site that is still in use, keyed weakly: a site is
+// read-only and shared by a sweep's scenarios, and its layout depends on nothing else, so it
+// is drawn once per site; the entry goes when the site is collected.
+var layouts sync.Map // weak.Pointer[site.Site] → *layout
+
+// layoutOf is the optimizer's graph of the site, drawn once (newLayout) and shared.
+func layoutOf(s *site.Site) *layout {
+	k := weak.Make(s)
+	if l, ok := layouts.Load(k); ok {
+		return l.(*layout)
+	}
+	l, loaded := layouts.LoadOrStore(k, newLayout(s))
+	if !loaded {
+		runtime.AddCleanup(s, func(k weak.Pointer[site.Site]) { layouts.Delete(k) }, k)
+	}
+	return l.(*layout)
 }
 
 // isExtra reports whether edge e is one no span draws, and which.
@@ -94,11 +124,24 @@ func (l *layout) isExtra(spans, e int) (*extraEdge, bool) {
 	return &l.extra[e-spans], true
 }
 
-// newLayout draws the optimizer's graph of the site; firstGroup is the first shared-risk group
-// number free after the spans'.
-func newLayout(s *site.Site, firstGroup int) *layout {
+// newLayout draws the optimizer's graph of the site, and numbers its shared-risk groups and
+// span classes.
+func newLayout(s *site.Site) *layout {
 	net := s.Net
-	l := &layout{end: map[string]int{}, endEntry: map[string]geo.Entry{}, spanEnds: make([][2]int, len(net.Spans))}
+	l := &layout{end: map[string]int{}, endEntry: map[string]geo.Entry{}, spanEnds: make([][2]int, len(net.Spans)),
+		groupOf: map[string]int{}}
+	var names []string
+	for _, sp := range net.Spans {
+		if _, ok := l.groupOf[sp.Group]; !ok && sp.Group != "" {
+			l.groupOf[sp.Group] = 0
+			names = append(names, sp.Group)
+		}
+	}
+	sort.Strings(names)
+	for i, n := range names {
+		l.groupOf[n] = i + 1
+	}
+	firstGroup := len(names) + 1 // the first shared-risk group number free after the spans'
 	jIndex := make(map[string]int, len(net.Junctions))
 	for i, j := range net.Junctions {
 		jIndex[j.ID] = i
@@ -259,6 +302,7 @@ func newLayout(s *site.Site, firstGroup int) *layout {
 		}
 	}
 	l.groups = group - firstGroup
+	l.numberClasses(net)
 	// Turn edges and the handholes they and opened spans may need.
 	for j, jn := range net.Junctions {
 		var c junctionCharge
@@ -285,6 +329,34 @@ func newLayout(s *site.Site, firstGroup int) *layout {
 		}
 	}
 	return l
+}
+
+// numberClasses lists the span classes of the network's spans (and of the laterals, when an
+// entrance edge carries one) in a fixed order and gives each its edge flag.
+func (l *layout) numberClasses(net *geo.Network) {
+	l.classes, l.classBit = nil, map[spanClass]uint64{}
+	for i := range net.Spans {
+		if c := classOf(&net.Spans[i]); l.classBit[c] == 0 {
+			l.classBit[c] = 1 // numbered below, in a fixed order
+			l.classes = append(l.classes, c)
+		}
+	}
+	if l.lateral && l.classBit[lateralClass] == 0 { // entrance edges with a lateral run in this class
+		l.classBit[lateralClass] = 1
+		l.classes = append(l.classes, lateralClass)
+	}
+	slices.SortFunc(l.classes, func(a, b spanClass) int {
+		return cmp.Or(strings.Compare(a.typ, b.typ), strings.Compare(a.emi, b.emi), boolCmp(a.outdoor, b.outdoor), boolCmp(a.plenum, b.plenum))
+	})
+	if len(l.classes) > 62 {
+		// 5 pathway types × 3 EMI levels × outdoors or not × plenum or not is 60 at most.
+		panic(fmt.Sprintf("route: %d span classes do not fit the optimizer's edge flags", len(l.classes)))
+	}
+	for k, c := range l.classes {
+		// At most 5 pathway types × 3 EMI levels × plenum or not: 30 classes, well within
+		// the flags above firstClassFlag.
+		l.classBit[c] = firstClassFlag << k
+	}
 }
 
 // setEnd records node n as span i's end at junction j.

@@ -94,8 +94,8 @@ func (c LegCost) TotalCents() int64 {
 }
 
 // legsOf turns the optimizer's route of one link into its legs, with media and costs.
-func legsOf(s *site.Site, cm *Model, prob *optimize.Problem, rt *optimize.Route, l *site.Link, info demandInfo, why string) []Leg {
-	from, to := cm.layout.endEntry[l.To], cm.layout.endEntry[l.From]
+func legsOf(s *site.Site, cm *Model, lay *layout, prob *optimize.Problem, rt *optimize.Route, l *site.Link, info demandInfo, why string) []Leg {
+	from, to := lay.endEntry[l.To], lay.endEntry[l.From]
 	base := Leg{Link: l, RiserM: info.facts.RiserM, LateralM: from.LateralM + to.LateralM, StrandsCable: info.strands}
 	primary := base
 	primary.Name = LegPrimary
@@ -119,17 +119,17 @@ func legsOf(s *site.Site, cm *Model, prob *optimize.Problem, rt *optimize.Route,
 		}
 		return legs
 	}
-	fillLeg(s, cm, &primary, rt.Primary, rt.Medium, info)
+	fillLeg(s, cm, lay, &primary, rt.Primary, rt.Medium, info)
 	primary.Cost.ConstructionCents += rt.Cost.ConstructionShareCents + rt.Cost.AddedDuctCents + rt.Cost.ChargeShareCents
 	legs := []Leg{primary}
 	if l.Diverse {
 		d := base
 		d.Name = LegDiverse
 		if len(rt.Secondary.Hops) > 0 {
-			fillLeg(s, cm, &d, rt.Secondary, rt.Medium, info)
+			fillLeg(s, cm, lay, &d, rt.Secondary, rt.Medium, info)
 			// Both legs leave a building with one entrance by it: diverse outside, not there.
 			for _, b := range []string{l.To, l.From} {
-				if e, one := cm.layout.endEntry[b]; one && d.Feasible {
+				if e, one := lay.endEntry[b]; one && d.Feasible {
 					d.Choice += fmt.Sprintf("; both legs use building %s's only entrance %s, a single point of failure", b, e.ID)
 					d.ReasonCode = CodeSharedPt
 				}
@@ -141,7 +141,7 @@ func legsOf(s *site.Site, cm *Model, prob *optimize.Problem, rt *optimize.Route,
 				d.ReasonCode = CodeSharedPt
 			}
 		} else {
-			d.Reason, d.ReasonCode = "no diverse route: "+singlePoint(s, cm.layout, prob, rt), CodeNoDiverse
+			d.Reason, d.ReasonCode = "no diverse route: "+singlePoint(s, lay, prob, rt), CodeNoDiverse
 		}
 		legs = append(legs, d)
 	}
@@ -150,8 +150,7 @@ func legsOf(s *site.Site, cm *Model, prob *optimize.Problem, rt *optimize.Route,
 
 // fillLeg sets a leg's route and its medium from the rule engine on the route's own facts;
 // the estimate prices it (package estimate).
-func fillLeg(s *site.Site, cm *Model, leg *Leg, ol optimize.Leg, medium string, info demandInfo) {
-	lay := cm.layout
+func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, medium string, info demandInfo) {
 	if e, ok := lay.endEntry[leg.Link.To]; ok {
 		leg.EntranceTo = e.ID
 	}

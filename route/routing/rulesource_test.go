@@ -51,15 +51,15 @@ func excluded(t *testing.T, rules *media.Rules) map[string]bool {
 	if err != nil {
 		t.Fatal(err)
 	}
-	prob, _, err := problem(s, cm, links)
+	prob, lay, _, err := problem(s, cm, links)
 	if err != nil {
 		t.Fatal(err)
 	}
 	out := map[string]bool{}
 	for _, d := range prob.Demands {
 		for _, o := range d.Options {
-			for _, c := range cm.classes {
-				if o.ExcludeFlags&cm.classBit[c] != 0 {
+			for _, c := range lay.classes {
+				if o.ExcludeFlags&lay.classBit[c] != 0 {
 					out[o.Name+":"+c.String()] = true
 				}
 			}
@@ -67,7 +67,7 @@ func excluded(t *testing.T, rules *media.Rules) map[string]bool {
 	}
 	// Every edge carries its class's flag.
 	for i, e := range prob.Edges[:len(s.Net.Spans)] { // the entrance and turn edges after them carry no span
-		if e.Flags&cm.classBit[classOf(&s.Net.Spans[i])] == 0 {
+		if e.Flags&lay.classBit[classOf(&s.Net.Spans[i])] == 0 {
 			t.Fatalf("edge %s lacks its class flag", e.ID)
 		}
 	}
@@ -110,8 +110,8 @@ func TestExplainInfeasible(t *testing.T) {
 	t.Parallel()
 	emi := spanClass{emi: "high", outdoor: true, typ: "duct"}
 	air := spanClass{emi: "none", outdoor: true, typ: "aerial"}
-	cm := &Model{classes: []spanClass{air, emi}, classBit: map[spanClass]uint64{air: firstClassFlag, emi: firstClassFlag << 1}}
-	got := cm.explain(optimize.Infeasible{Reason: "raw", Options: []optimize.OptionFailure{
+	lay := &layout{classes: []spanClass{air, emi}, classBit: map[spanClass]uint64{air: firstClassFlag, emi: firstClassFlag << 1}}
+	got := lay.explain(optimize.Infeasible{Reason: "raw", Options: []optimize.OptionFailure{
 		{Name: "cat6a", Kind: optimize.FailNoPathFlags, ExcludeFlags: firstClassFlag<<1 | flagDuct},
 		{Name: "om4", Kind: optimize.FailReach, ShortestM: 612.34, ReachM: 400},
 		{Name: "os2", Kind: optimize.FailNoPath},

@@ -55,14 +55,13 @@ type Handhole struct {
 // the others; it carries its reason. When ctx is done, the optimizer and the media choice stop
 // within a step and Solve returns ctx's error.
 func Solve(ctx context.Context, s *site.Site, m *Model, links []site.Link) (*Routed, error) {
-	prob, infos, err := problem(s, m, links)
+	prob, lay, infos, err := problem(s, m, links)
 	if err != nil {
 		return nil, err
 	}
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
-	lay := m.layout
 	sol, err := solve(ctx, s, lay, prob, optimize.Settings{Objective: m.design.Objective})
 	if err != nil {
 		if ctx.Err() != nil {
@@ -89,13 +88,13 @@ func Solve(ctx context.Context, s *site.Site, m *Model, links []site.Link) (*Rou
 	}
 	infeasible := map[int]string{}
 	for _, in := range sol.Infeasible {
-		infeasible[in.Demand] = m.explain(in)
+		infeasible[in.Demand] = lay.explain(in)
 	}
 	for i := range links {
 		if err := ctxio.StopEvery(ctx, i); err != nil {
 			return nil, err
 		}
-		r.Legs = append(r.Legs, legsOf(s, m, prob, &sol.Routes[i], &links[i], infos[i], infeasible[i])...)
+		r.Legs = append(r.Legs, legsOf(s, m, lay, prob, &sol.Routes[i], &links[i], infos[i], infeasible[i])...)
 	}
 	r.Entrances = entrancesUsed(lay, r.Legs)
 	for _, e := range r.Entrances {
@@ -144,6 +143,6 @@ func entrancesUsed(lay *layout, legs []Leg) []EntranceUse {
 // site's network (same index), one demand per link, every price from the model. It is what
 // the optimizer's objective is computed on, for checks against the bill.
 func Problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, error) {
-	prob, _, err := problem(s, m, links)
+	prob, _, _, err := problem(s, m, links)
 	return prob, err
 }

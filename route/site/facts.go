@@ -137,7 +137,7 @@ func (s *Site) ThroughOnly(hub string) []string {
 		if b.ID == hub || !s.Joined(b.ID, hub) {
 			continue
 		}
-		if !slices.ContainsFunc(s.Net.EntrancesOf(b.ID), func(e geo.Entry) bool { return seen[e.Junction] }) {
+		if !seen.any(s, s.Net.EntrancesOf(b.ID)) {
 			out = append(out, b.ID)
 		}
 	}
@@ -161,7 +161,7 @@ func (s *Site) Apart(a, b string) (string, bool) {
 		return s.CutOff(a, b), true
 	}
 	seen, _ := s.search(a, b)
-	if slices.ContainsFunc(s.Net.EntrancesOf(b), func(e geo.Entry) bool { return seen[e.Junction] }) {
+	if seen.any(s, s.Net.EntrancesOf(b)) {
 		return "", false
 	}
 	return s.Through(a, b), true
@@ -171,42 +171,47 @@ func (s *Site) Apart(a, b string) (string, bool) {
 // spans, between the entrances of from and of the hub (a route may start at any of them), and
 // through a junction inside another building only when that building allows transit. It
 // returns the junctions it reached and, sorted, the other buildings whose entrances it reached.
-func (s *Site) search(from, hub string) (map[string]bool, []string) {
+func (s *Site) search(from, hub string) (reached, []string) {
 	open := func(b string) bool {
 		t, ok := s.Net.TransitOf(b)
 		return b == from || b == hub || (ok && t.Allowed)
 	}
-	adj := map[string][]string{}
-	link := func(x, y string) {
-		adj[x] = append(adj[x], y)
-		adj[y] = append(adj[y], x)
+	adj := s.spanAdjacency()
+	// Entrances of from and of the hub are linked in a chain, as they are listed.
+	ends := map[int][]int{}
+	both := []string{from}
+	if hub != from {
+		both = append(both, hub)
 	}
-	for _, sp := range s.Net.Spans {
-		link(sp.From, sp.To)
-	}
-	for i := 1; i < len(s.Net.Entrances); i++ {
-		if e, f := s.Net.Entrances[i-1], s.Net.Entrances[i]; e.Building == f.Building && (e.Building == from || e.Building == hub) {
-			link(e.Junction, f.Junction)
+	for _, b := range both {
+		es := s.Net.EntrancesOf(b)
+		for i := 1; i < len(es); i++ {
+			x, y := s.junction[es[i-1].Junction], s.junction[es[i].Junction]
+			ends[x] = append(ends[x], y)
+			ends[y] = append(ends[y], x)
 		}
 	}
-	seen := map[string]bool{}
-	var queue, met []string
+	seen := make(reached, len(s.Net.Junctions))
+	var queue []int
+	var met []string
+	isMet := map[string]bool{}
 	for _, e := range s.Net.EntrancesOf(from) {
-		if !seen[e.Junction] {
-			seen[e.Junction] = true
-			queue = append(queue, e.Junction)
+		if j := s.junction[e.Junction]; !seen[j] {
+			seen[j] = true
+			queue = append(queue, j)
 		}
 	}
 	for len(queue) > 0 {
 		j := queue[0]
 		queue = queue[1:]
-		if m, ok := s.Net.MeetingAt(j); ok {
+		if m, ok := s.Net.MeetingAt(s.Net.Junctions[j].ID); ok {
 			stop := false
 			for _, b := range m.Buildings {
 				if b == from || b == hub {
 					continue
 				}
-				if !slices.Contains(met, b) {
+				if !isMet[b] {
+					isMet[b] = true
 					met = append(met, b)
 				}
 				stop = stop || !open(b)
@@ -215,7 +220,13 @@ func (s *Site) search(from, hub string) (map[string]bool, []string) {
 				continue // reached, not passed
 			}
 		}
-		for _, k := range adj[j] {
+		for _, k := range adj.to[adj.start[j]:adj.start[j+1]] {
+			if !seen[k] {
+				seen[k] = true
+				queue = append(queue, int(k))
+			}
+		}
+		for _, k := range ends[j] {
 			if !seen[k] {
 				seen[k] = true
 				queue = append(queue, k)
@@ -224,6 +235,46 @@ func (s *Site) search(from, hub string) (map[string]bool, []string) {
 	}
 	slices.Sort(met)
 	return seen, met
+}
+
+// reached marks the junctions a search reached, by index in Net.Junctions.
+type reached []bool
+
+// any reports whether the search reached one of the entries.
+func (r reached) any(s *Site, entries []geo.Entry) bool {
+	return slices.ContainsFunc(entries, func(e geo.Entry) bool { return r[s.junction[e.Junction]] })
+}
+
+// adjacency lists, per junction index, the junctions its spans lead to: to[start[j]:start[j+1]].
+type adjacency struct {
+	start []int32
+	to    []int32
+}
+
+// spanAdjacency is the network's junctions joined by spans, built once per site: search runs
+// once per link the network keeps apart and once per check.
+func (s *Site) spanAdjacency() *adjacency {
+	s.adjOnce.Do(func() {
+		n := len(s.Net.Junctions)
+		a := &adjacency{start: make([]int32, n+1), to: make([]int32, 2*len(s.Net.Spans))}
+		for _, sp := range s.Net.Spans {
+			a.start[s.junction[sp.From]+1]++
+			a.start[s.junction[sp.To]+1]++
+		}
+		for i := 0; i < n; i++ {
+			a.start[i+1] += a.start[i]
+		}
+		next := slices.Clone(a.start[:n])
+		for _, sp := range s.Net.Spans {
+			x, y := s.junction[sp.From], s.junction[sp.To]
+			a.to[next[x]] = int32(y)
+			next[x]++
+			a.to[next[y]] = int32(x)
+			next[y]++
+		}
+		s.adj = a
+	})
+	return s.adj
 }
 
 // CutOff says in words why building b has no path to the hub, and what might join it: the

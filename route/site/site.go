@@ -29,6 +29,8 @@ type Site struct {
 	entrance map[string]bool // junction IDs of every entrance and access (JoinsNetwork)
 	interior []bool          // by junction index: inside a run of new construction (InRun)
 	dist     sync.Map        // building ID → map[string]float64, see distancesFrom
+	adjOnce  sync.Once
+	adj      *adjacency // junctions joined by spans (spanAdjacency)
 
 	// Solved keeps the optimizer's solutions of the routing problems solved on this site, by
 	// fingerprint of the canonical problem (see package routing), and Pulls the pull plans of

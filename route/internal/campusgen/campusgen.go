@@ -12,6 +12,8 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"os"
+	"path/filepath"
 	"slices"
 	"strconv"
 	"strings"
@@ -42,6 +44,13 @@ type Campus struct {
 type Options struct {
 	Buildings   int     // served buildings and cross-connects together
 	ProposedPct float64 // share of street pathways that are proposed, 10–30 by default
+
+	// PathwaysPerBuilding, when above zero, sizes the street grid so that the campus has
+	// about this many pathway features per building (streets, parallel banks, diagonals and
+	// laterals together; from 2.5 up): a denser grid than the default, with more streets than
+	// buildings, as a campus whose duct network was built ahead of its buildings. Zero keeps
+	// the default grid of about one street per building (about 2 pathways per building).
+	PathwaysPerBuilding float64
 }
 
 const (
@@ -65,7 +74,7 @@ func Generate(seed uint64, opt Options) *Campus {
 	}
 	// A grid with about one block side per building.
 	g := 2
-	for 2*g*(g-1) < n {
+	for 2*g*(g-1) < streetsFor(n, opt.PathwaysPerBuilding) {
 		g++
 	}
 	step := 90 + 60*r.Float64()
@@ -183,16 +192,40 @@ func Generate(seed uint64, opt Options) *Campus {
 	var placedAt []int // feature index of each building
 	type placed struct{ cx, cy, half float64 }
 	var done []placed
-	clear := func(cx, cy, half float64) bool {
-		for _, q := range done {
-			if math.Abs(q.cx-cx) < q.half+half+8 && math.Abs(q.cy-cy) < q.half+half+8 {
-				return false
+	// The street segments and the buildings placed, bucketed by cell of the grid, so that a
+	// building's clearance looks only at its neighbourhood; the answer is the one a scan of
+	// every street and building gives.
+	cell := 2 * step
+	key := func(x, y float64) [2]int { return [2]int{int(math.Floor(x / cell)), int(math.Floor(y / cell))} }
+	segs := map[[2]int][][2][2]float64{}
+	for _, st := range streets {
+		for k := 1; k < len(st.pts); k++ {
+			a, b := st.pts[k-1], st.pts[k]
+			lo, hi := key(min(a[0], b[0]), min(a[1], b[1])), key(max(a[0], b[0]), max(a[1], b[1]))
+			for i := lo[0]; i <= hi[0]; i++ {
+				for j := lo[1]; j <= hi[1]; j++ {
+					segs[[2]int{i, j}] = append(segs[[2]int{i, j}], [2][2]float64{a, b})
+				}
 			}
 		}
-		for _, st := range streets {
-			for k := 1; k < len(st.pts); k++ {
-				if segDist(cx, cy, st.pts[k-1], st.pts[k]) < half*math.Sqrt2+4 {
-					return false
+	}
+	near := map[[2]int][]int{} // index into done
+	clear := func(cx, cy, half float64) bool {
+		// half ≤ 20 m and a street segment is shorter than a cell: the segments and buildings
+		// that can be within reach lie in the building's cell or the eight around it.
+		k := key(cx, cy)
+		for i := k[0] - 1; i <= k[0]+1; i++ {
+			for j := k[1] - 1; j <= k[1]+1; j++ {
+				for _, d := range near[[2]int{i, j}] {
+					q := done[d]
+					if math.Abs(q.cx-cx) < q.half+half+8 && math.Abs(q.cy-cy) < q.half+half+8 {
+						return false
+					}
+				}
+				for _, sg := range segs[[2]int{i, j}] {
+					if segDist(cx, cy, sg[0], sg[1]) < half*math.Sqrt2+4 {
+						return false
+					}
 				}
 			}
 		}
@@ -226,6 +259,7 @@ func Generate(seed uint64, opt Options) *Campus {
 		if !ok {
 			continue
 		}
+		near[key(cx, cy)] = append(near[key(cx, cy)], len(done))
 		done = append(done, placed{cx, cy, half})
 		id := fmt.Sprintf("B%03d", b)
 		props := []Prop{{"kind", "building"}, {"id", id}, {"name", "Hall " + strconv.Itoa(b)},
@@ -266,6 +300,16 @@ func Generate(seed uint64, opt Options) *Campus {
 		f.Props = append(f.Props, Prop{"role", "ic"})
 	}
 	return c
+}
+
+// streetsFor is how many street sides the grid needs for n buildings: n by default, or
+// enough for about perBuilding pathway features per building, counting a lateral for 0.8 of
+// the buildings, a second one for 0.1, and 0.12 parallel banks and diagonals per street.
+func streetsFor(n int, perBuilding float64) int {
+	if perBuilding <= 0 {
+		return n
+	}
+	return max(n, int(math.Ceil(float64(n)*(perBuilding-0.9)/1.12)))
 }
 
 // segDist is the distance in metres from (x, y) to the segment a–b.
@@ -343,4 +387,96 @@ func line(l [][2]float64) string {
 		parts[i] = pos(p)
 	}
 	return "[" + strings.Join(parts, ",") + "]"
+}
+
+// Stats counts what a generated campus holds.
+type Stats struct {
+	Buildings, Pathways, Structures int
+	Proposed                        int // pathways with status proposed
+	Aerial, Tunnel, EMI, NoSpare    int // pathways of type aerial or tunnel, with an emi level, with spare_ducts 0
+}
+
+// Stats counts the campus's features by kind.
+func (c *Campus) Stats() Stats {
+	var s Stats
+	for _, f := range c.Features {
+		props := map[string]any{}
+		for _, p := range f.Props {
+			props[p.Key] = p.Value
+		}
+		switch props["kind"] {
+		case "building":
+			s.Buildings++
+		case "structure":
+			s.Structures++
+		case "pathway":
+			s.Pathways++
+			if props["status"] == "proposed" {
+				s.Proposed++
+			}
+			switch props["type"] {
+			case "aerial":
+				s.Aerial++
+			case "tunnel":
+				s.Tunnel++
+			}
+			if _, ok := props["emi"]; ok {
+				s.EMI++
+			}
+			if props["spare_ducts"] == 0 {
+				s.NoSpare++
+			}
+		}
+	}
+	return s
+}
+
+// String is one line of the counts.
+func (s Stats) String() string {
+	return fmt.Sprintf("%d buildings, %d pathways (%.2f per building; %.1f %% proposed, %d aerial, %d tunnel, %d with EMI, %d full ducts with no spare), %d structures",
+		s.Buildings, s.Pathways, float64(s.Pathways)/float64(max(s.Buildings, 1)), 100*float64(s.Proposed)/float64(max(s.Pathways, 1)),
+		s.Aerial, s.Tunnel, s.EMI, s.NoSpare, s.Structures)
+}
+
+// BenchOptions are the options of the campuses the benchmarks time: n buildings, about 4.5
+// pathway features per building, 25 % of the street pathways proposed (with the diagonals,
+// about a fifth of all pathways).
+func BenchOptions(n int) Options {
+	return Options{Buildings: n, PathwaysPerBuilding: 4.5, ProposedPct: 25}
+}
+
+// PlanYAML is a plan for the campus in the given files: every building linked to its nearest
+// cross-connect by default, and every diverseEvery-th building (none when 0) of those drawn
+// with a second lateral (two entrances, so that a diverse route can exist) with a diverse
+// link to the hub.
+func (c *Campus) PlanYAML(files []string, diverseEvery int) string {
+	var b strings.Builder
+	fmt.Fprintf(&b, "name: generated\ncampus: [%s]\nhub: %s\n", strings.Join(files, ", "), c.Hub)
+	b.WriteString("defaults: {rate: 10G, strands: 12, growth: 0.5, redundancy: none}\n")
+	k := 0
+	for _, id := range c.IDs {
+		bid, ok := strings.CutSuffix(id, "-L2")
+		if !ok || bid == c.Hub {
+			continue
+		}
+		if k++; diverseEvery > 0 && k%diverseEvery == 0 {
+			if k == diverseEvery {
+				b.WriteString("links:\n")
+			}
+			fmt.Fprintf(&b, "  - {to: %s, redundancy: diverse}\n", bid)
+		}
+	}
+	return b.String()
+}
+
+// WriteFiles writes the campus to dir/campus.geojson and its PlanYAML to dir/plan.yaml,
+// creating dir.
+func WriteFiles(dir string, c *Campus, diverseEvery int) error {
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		return err
+	}
+	if err := os.WriteFile(filepath.Join(dir, "campus.geojson"), GeoJSON(c.Features), 0o644); err != nil {
+		return err
+	}
+	return os.WriteFile(filepath.Join(dir, "plan.yaml"), []byte(c.PlanYAML([]string{"campus.geojson"}, diverseEvery)), 0o644)
 }
