@@ -74,17 +74,13 @@ func (sv *solver) rebest(d int) (old, nb choice) {
 	old = sv.remove(d)
 	sv.markOwn(d, old)
 	nb = sv.best(d)
-	sv.ownSt++
+	sv.endOwn()
 	return old, nb
 }
 
 // markOwn records choice c of demand d as the cable the last flushed packing holds for d.
 func (sv *solver) markOwn(d int, c choice) {
-	sv.ownSt++
-	if sv.ownSt == 0 {
-		clear(sv.own)
-		sv.ownSt = 1
-	}
+	sv.endOwn()
 	if c.opt < 0 {
 		return
 	}
@@ -93,6 +89,29 @@ func (sv *solver) markOwn(d int, c choice) {
 		for _, h := range leg {
 			sv.own[h.Edge] = sv.ownSt
 		}
+	}
+}
+
+// endOwn ends the view of markOwn: no edge holds the new ownSt. The stamps start at 1 over
+// zeroed marks (newSolver) and skip 0 when they wrap, clearing the marks: a stamp equal to the
+// zeroed arrays' value would mark every edge as the rerouted demand's own (issue 16: before
+// the first estimate, every proposed span used by exactly one demand was then charged in full
+// to any other demand, which could not join it).
+func (sv *solver) endOwn() {
+	sv.ownSt++
+	if sv.ownSt == 0 {
+		clear(sv.own)
+		sv.ownSt = 1
+	}
+}
+
+// endSelf ends the in-place view of estimate: no edge or charge holds the new selfSt.
+func (sv *solver) endSelf() {
+	sv.selfSt++
+	if sv.selfSt == 0 {
+		clear(sv.self)
+		clear(sv.chSelfSt)
+		sv.selfSt = 1
 	}
 }
 
@@ -416,27 +435,20 @@ func (sv *solver) estimate(d int) int64 {
 	if c.opt < 0 || sv.invalid[d] != "" {
 		return 0
 	}
-	sv.selfSt++
-	if sv.selfSt == 0 {
-		clear(sv.self)
-		sv.selfSt = 1
-	}
+	sv.endSelf()
 	for _, leg := range c.legs {
 		for _, h := range leg {
 			sv.self[h.Edge] = sv.selfSt
 		}
 	}
 	if sv.chOn {
-		if sv.selfSt == 1 {
-			clear(sv.chSelfSt)
-		}
 		sv.scanCharges(c)
 		for _, k := range sv.chTouch {
 			sv.chSelf[k], sv.chSelfSt[k] = sv.chCnt[k], sv.selfSt
 		}
 	}
 	sv.markOwn(d, c)
-	defer func() { sv.ownSt++ }()
+	defer sv.endOwn()
 	dm := &sv.p.Demands[d]
 	w := sv.weightFor(d, c.opt)
 	cur := sv.optionCents(d, c.opt, len(c.legs))
@@ -450,7 +462,7 @@ func (sv *solver) estimate(d int) int64 {
 		}
 	}
 	nb := sv.best(d)
-	defer func() { sv.selfSt++ }() // end the in-place view
+	defer sv.endSelf() // end the in-place view
 	if nb.opt < 0 || (dm.Diverse && len(nb.legs) < len(c.legs)) {
 		return 0
 	}
@@ -639,7 +651,7 @@ func (sv *solver) improve() int {
 		if sv.chOn && !sv.stopped() && sv.chargeMoves() {
 			changed = true
 		}
-		if !changed || sv.optima[sv.st.planH] {
+		if !changed || sv.optima[sv.st.planH] || sv.gapClosed() {
 			break // a local optimum, or one the perturbation phase has reached before (kicks)
 		}
 	}
@@ -700,13 +712,16 @@ func (sv *solver) place(d int) {
 }
 
 func (sv *solver) run() {
+	sv.dual = sv.ascend()
 	sv.start(false)
-	sv.rounds = sv.improve()
+	if !sv.gapClosed() {
+		sv.rounds = sv.improve()
+	}
 	fixed := len(sv.proposed) // proposed edges and, priced, charges: what a start may open
 	if sv.chOn {
 		fixed += len(sv.p.Charges)
 	}
-	if sv.length || fixed == 0 || sv.stopped() {
+	if sv.length || fixed == 0 || sv.stopped() || sv.gapClosed() {
 		return
 	}
 	if len(sv.p.Demands)*fixed > maxSecondStart {
@@ -728,7 +743,7 @@ func (sv *solver) run() {
 	} else {
 		sv.dropState(first)
 	}
-	if len(sv.proposed) > 0 && len(sv.p.Demands)*len(sv.proposed) <= maxKickWork {
+	if len(sv.proposed) > 0 && len(sv.p.Demands)*len(sv.proposed) <= maxKickWork && !sv.gapClosed() {
 		sv.kicks()
 	}
 }
@@ -788,7 +803,7 @@ func (sv *solver) kicks() {
 			}
 		}
 		for _, k := range ks {
-			if sv.stopped() {
+			if sv.stopped() || sv.gapClosed() {
 				return
 			}
 			before := sv.key()

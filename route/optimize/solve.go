@@ -200,6 +200,8 @@ type solver struct {
 	joinSeen  []uint32
 	joinStamp uint32
 	joinQueue []int32
+	// dual is the lower bound's ascent (lowerbound.go), nil for the length objective.
+	dual *dualBound
 }
 
 func newSolver(p *Problem, opt Settings) *solver {
@@ -216,6 +218,7 @@ func newSolver(p *Problem, opt Settings) *solver {
 		srch: newSearch[int64](net), rc: newRCSPScratch(net), ps: newPairScratch(net),
 		pen: make([]int64, ne), penOK: make([]bool, ne), penSt: make([]uint32, ne), self: make([]uint32, ne), own: make([]uint32, ne),
 		memos: make([]rerouteMemo, len(p.Demands)), qSt: make([]uint32, ne), qLevel: make([]uint8, ne),
+		selfSt: 1, ownSt: 1, // see endOwn
 	}
 	if sv.maxRounds == 0 {
 		sv.maxRounds = DefaultMaxRounds
