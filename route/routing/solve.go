@@ -23,6 +23,10 @@ type Routed struct {
 	// ObjectiveCents is the optimizer's objective for the routes it returned
 	// (optimize.Solution.TotalCents): see the README's "One cost model".
 	ObjectiveCents int64
+	// LowerBoundCents is the optimizer's proved lower bound on that objective for every plan
+	// serving the same legs (optimize.Solution.LowerBoundCents); -1 when none was computed
+	// (the length objective).
+	LowerBoundCents int64
 }
 
 // Handhole is a handhole the plan adds at a junction without a structure.
@@ -51,7 +55,7 @@ func Solve(ctx context.Context, s *site.Site, m *Model, links []site.Link) (*Rou
 		}
 		return nil, fmt.Errorf("route: optimizer: %w", err)
 	}
-	r := &Routed{ObjectiveCents: sol.TotalCents, Fill: fillReport(s, prob, sol)}
+	r := &Routed{ObjectiveCents: sol.TotalCents, LowerBoundCents: sol.LowerBoundCents, Fill: fillReport(s, prob, sol)}
 	for _, e := range sol.Opened {
 		r.Opened = append(r.Opened, s.Net.Spans[e].ID)
 	}

@@ -48,6 +48,12 @@ type Row struct {
 	// Note says what of the base plan the scenario left out, and why (output.Summary.Notes,
 	// joined by "; "), e.g. a link entry for the building the scenario makes the hub.
 	Note string `json:"note,omitempty"`
+	// ObjectiveCents, LowerBoundCents and Gap are the optimizer's objective, its proved lower
+	// bound and their gap (output.Summary.ObjectiveCents, LowerBound, Gap); the bound and gap
+	// are nil with the length objective, and in rows files written before they existed.
+	ObjectiveCents  int64    `json:"objective_cents"`
+	LowerBoundCents *int64   `json:"lower_bound_cents,omitempty"`
+	Gap             *float64 `json:"gap,omitempty"`
 }
 
 func newRow(sc Scenario) Row {
@@ -74,6 +80,7 @@ func (r *Row) fill(s output.Summary) {
 	r.MediaMix = strings.Join(media, " ")
 	r.Warnings = s.WarningCount
 	r.Note = strings.Join(s.Notes, "; ")
+	r.ObjectiveCents, r.LowerBoundCents, r.Gap = s.ObjectiveCents, s.LowerBound, s.Gap
 	r.Status = StatusOK
 	if s.Infeasible > 0 {
 		r.Status = StatusInfeasible
