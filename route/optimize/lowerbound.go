@@ -41,7 +41,14 @@ import (
 // pairs before cost, so those are the plans it compares). Added ducts are priced at 0.
 
 // dualPasses is the number of passes of the ascent.
-const dualPasses = 4
+const dualPasses = 2
+
+// dualRaises bounds the prices one demand raises in one pass; dualProbes the edges of one
+// path tried for a raise.
+const (
+	dualRaises = 200
+	dualProbes = 16
+)
 
 // dualWork bounds the nodes and edges the ascent scans, over all passes: enough for every
 // pass on campuses of a few hundred buildings, a fixed amount of work beyond.
@@ -111,6 +118,20 @@ func (sv *solver) ascend() *dualBound {
 			}
 		}
 	}
+	// An edge whose ducts are full makes its first cable add a duct, and the trench for it:
+	// a fixed charge on the edge, paid by any plan that uses it. Only when every option's
+	// cable takes duct area (a cable of no diameter needs no duct).
+	sized := true
+	for _, dm := range p.Demands {
+		for _, o := range dm.Options {
+			sized = sized && o.CableODMM > 0
+		}
+	}
+	for e := range p.Edges {
+		if ed := &p.Edges[e]; sized && sv.limited[e] && ed.Ducts == 0 && ed.AddDuctPerMCents > 0 {
+			db.budget[e] += sv.ductCent[e] + sv.trenchCent[e]
+		}
+	}
 	db.rem = slices.Clone(db.budget)
 	free := make([]int64, nd)
 	for d := range db.level {
@@ -120,8 +141,10 @@ func (sv *solver) ascend() *dualBound {
 			db.level[d] = free[d]
 		}
 	}
-	a, b := newDualSearch(sv.net.nodes), newDualSearch(sv.net.nodes)
-	var uses []dualUse
+	ds, dt := newDualSearch(sv.net.nodes, ne), newDualSearch(sv.net.nodes, 0)
+	dt.w = ds.w // the search back from the anchor prices the same w^d
+	var path []int32
+	var raisedBuf []dualUse
 	for pass := 1; pass <= dualPasses; pass++ {
 		for d := 0; d < nd; d++ {
 			if free[d] < 0 || sv.stopped() {
@@ -130,66 +153,121 @@ func (sv *solver) ascend() *dualBound {
 			if db.work > dualWork {
 				return db.finish(nd)
 			}
-			for _, u := range db.uses[d] { // give back d's prices: it re-ascends with them
-				db.rem[u.edge] += u.cents
+			for _, u := range db.uses[d] {
+				ds.add(u.edge, u.cents)
 			}
 			s, t := int32(sv.from[d]), int32(sv.to[d])
-			top := sv.dualRun(db, a, d, t, s, dualInf)
-			prev := max(db.level[d], free[d])
-			if top < 0 || top < prev {
-				// Unreachable (cannot happen when freeLevel found a path) or numerically
-				// below the old level: keep the old prices.
-				for _, u := range db.uses[d] {
-					db.rem[u.edge] -= u.cents
+			top := sv.dualRun(db, ds, d, s, t)
+			for it := 0; top >= 0 && it < dualRaises; it++ {
+				// Raise every budgeted edge of the cheapest path by its whole budget left,
+				// search again, and keep of each raise only what the new distances need
+				// (w_e = max(0, |π_u − π_v| − c_e), π the distances from the free end capped
+				// at the new level): the potentials stay feasible, so the level is the new
+				// cheapest path, and a raise the path did not need goes back to the budget.
+				path = ds.pathTo(sv.net, t, path[:0])
+				// First one edge at a time, fullest budget first: the raise is then exactly
+				// the gain.
+				slices.SortFunc(path, func(a, b int32) int {
+					if db.rem[a] != db.rem[b] {
+						if db.rem[a] > db.rem[b] {
+							return -1
+						}
+						return 1
+					}
+					return int(a - b)
+				})
+				one := false
+				for i, e := range path {
+					r := db.rem[e]
+					if r <= 0 || i >= dualProbes {
+						break
+					}
+					ds.add(e, r)
+					top2 := sv.dualRun(db, ds, d, s, t)
+					ds.w[e] -= r
+					if gain := min(top2-top, r); gain > 0 {
+						ds.add(e, gain)
+						db.rem[e] -= gain
+						one = true
+						break
+					}
 				}
-				continue
-			}
-			// The level: a share of the way from the plain path to the top, never below the
-			// level already proved.
-			lv := free[d] + (top-free[d])*int64(pass)/dualPasses
-			lv = max(lv, prev)
-			lv = min(lv, top)
-			// Potentials: π^T = lv − min(ℓ_t, lv) from the anchor's distances and π^S =
-			// min(ℓ_s, lv) from the free end's; both are feasible with π(free end) = 0 and
-			// π(anchor) = lv, and so is their minimum, which is steep only near the demand's
-			// cheap paths and so prices fewer edges it would not use.
-			sv.dualRun(db, b, d, s, -1, lv)
-			pot := func(v int32) int64 {
-				pt := int64(0)
-				if dv := a.dist[v]; dv >= 0 && dv < lv {
-					pt = lv - dv
-				}
-				ps := lv
-				if dv := b.dist[v]; dv >= 0 && dv < lv {
-					ps = dv
-				}
-				return min(pt, ps)
-			}
-			// Prices: each edge with an end of positive potential, counted from its higher end.
-			uses = uses[:0]
-			for _, v := range a.popped {
-				pv := pot(v)
-				if pv <= 0 {
+				if one {
+					top = sv.dualRun(db, ds, d, s, t)
 					continue
 				}
-				for _, ar := range sv.net.adj[sv.net.start[v]:sv.net.start[v+1]] {
-					c := sv.legCost(d, ar.edge)
-					if c < 0 {
-						continue
-					}
-					if w := pv - pot(ar.to) - c; w > 0 {
-						uses = append(uses, dualUse{ar.edge, w})
+				// No single edge gains (the path has equally cheap alternatives): raise
+				// together the budgeted edges of every cheapest path (the edges {u, v} with
+				// π_s(u) + c_e + w_e + π_t(v) = top, from a search back from the anchor).
+				sv.dualRun(db, dt, d, t, s)
+				raised := raisedBuf[:0]
+				for _, v := range ds.popped {
+					du := ds.dist[v]
+					for _, ar := range sv.net.adj[sv.net.start[v]:sv.net.start[v+1]] {
+						e := ar.edge
+						r := db.rem[e]
+						if r <= 0 {
+							continue
+						}
+						c := sv.legCost(d, e)
+						if c < 0 {
+							continue
+						}
+						if dv := dt.dist[ar.to]; dv >= 0 && dv < top && du+c+ds.w[e]+dv == top || ar.to == t && du+c+ds.w[e] == top {
+							raised = append(raised, dualUse{e, r})
+						}
 					}
 				}
-			}
-			db.uses[d] = append(db.uses[d][:0], uses...)
-			for _, u := range db.uses[d] {
-				db.rem[u.edge] -= u.cents
-				if db.rem[u.edge] < 0 {
-					panic("optimize: dual ascent overspent a budget")
+				slices.SortFunc(raised, func(a, b dualUse) int { return int(a.edge - b.edge) })
+				raised = slices.CompactFunc(raised, func(a, b dualUse) bool { return a.edge == b.edge })
+				// By the same amount each, the least budget left among them: a cut raised
+				// evenly.
+				step := int64(math.MaxInt64)
+				for _, u := range raised {
+					step = min(step, u.cents)
 				}
+				for i := range raised {
+					raised[i].cents = step
+					ds.add(raised[i].edge, step)
+				}
+				raisedBuf = raised
+				if len(raised) == 0 {
+					break
+				}
+				top2 := sv.dualRun(db, ds, d, s, t)
+				if top2 <= top {
+					for _, u := range raised {
+						ds.w[u.edge] -= u.cents
+					}
+					break
+				}
+				pot := func(v int) int64 {
+					if dv := ds.dist[v]; dv >= 0 && dv < top2 {
+						return dv
+					}
+					return top2
+				}
+				for _, u := range raised {
+					ed := &p.Edges[u.edge]
+					need := max(0, abs64(pot(ed.From)-pot(ed.To))-sv.legCost(d, u.edge))
+					db.rem[u.edge] -= need - (ds.w[u.edge] - u.cents)
+					ds.w[u.edge] = need
+				}
+				top = sv.dualRun(db, ds, d, s, t)
 			}
-			db.level[d] = lv
+			// Record d's prices (the edges priced above zero).
+			uses := db.uses[d][:0]
+			for _, e := range ds.wl {
+				if ds.w[e] > 0 {
+					uses = append(uses, dualUse{e, ds.w[e]})
+				}
+				ds.w[e], ds.wOn[e] = 0, false
+			}
+			ds.wl = ds.wl[:0]
+			db.uses[d] = uses
+			if top > db.level[d] {
+				db.level[d] = top
+			}
 		}
 		db.passes = pass
 	}
@@ -258,58 +336,94 @@ func (sv *solver) gapClosed() bool {
 	return b > 0 && float64(k.total-b) <= 1e-9*float64(b)
 }
 
-// dualSearch is the scratch of one ascent search.
+// dualSearch is the scratch of the ascent's searches: distances, the edge each node was
+// reached by, and the prices w^d of the demand being raised (wl lists the edges of w
+// touched, so that they can be cleared).
 type dualSearch struct {
 	dist            []int64 // -1 when not reached
+	pred            []int32 // edge a node was reached by, -1 for the root
 	popped, touched []int32
 	h               minHeap[int64]
+	w               []int64
+	wl              []int32
+	wOn             []bool
 }
 
-func newDualSearch(nodes int) *dualSearch {
-	ds := &dualSearch{dist: make([]int64, nodes)}
+func newDualSearch(nodes, edges int) *dualSearch {
+	ds := &dualSearch{dist: make([]int64, nodes), pred: make([]int32, nodes), w: make([]int64, edges), wOn: make([]bool, edges)}
 	for i := range ds.dist {
 		ds.dist[i] = -1
 	}
 	return ds
 }
 
-// dualRun runs Dijkstra from root over demand d's edges weighted c + budget left, until it
-// pops goal (returning its distance) or a node at limit or more (returning -1). Every node of
-// distance below the distance returned (or limit) is popped, with its final distance.
-func (sv *solver) dualRun(db *dualBound, ds *dualSearch, d int, root, goal int32, limit int64) int64 {
+func abs64(x int64) int64 {
+	if x < 0 {
+		return -x
+	}
+	return x
+}
+
+// add raises the price of edge e by x.
+func (ds *dualSearch) add(e int32, x int64) {
+	if !ds.wOn[e] {
+		ds.wOn[e] = true
+		ds.wl = append(ds.wl, e)
+	}
+	ds.w[e] += x
+}
+
+// pathTo appends to buf the edges of the search's path from its root to v.
+func (ds *dualSearch) pathTo(n *Network, v int32, buf []int32) []int32 {
+	for ds.pred[v] >= 0 {
+		e := ds.pred[v]
+		buf = append(buf, e)
+		if ed := &n.edges[e]; int32(ed.From) == v {
+			v = int32(ed.To)
+		} else {
+			v = int32(ed.From)
+		}
+	}
+	return buf
+}
+
+// dualRun runs Dijkstra from root over demand d's edges weighted c_e^d + w_e^d (ds.w),
+// passing no transit-free node but the root, until it pops goal; it returns goal's distance,
+// or -1 when goal cannot be reached.
+func (sv *solver) dualRun(db *dualBound, ds *dualSearch, d int, root, goal int32) int64 {
 	n := sv.net
 	for _, v := range ds.touched {
 		ds.dist[v] = -1
 	}
 	ds.popped, ds.touched = ds.popped[:0], append(ds.touched[:0], root)
 	ds.h.reset()
-	ds.dist[root] = 0
+	ds.dist[root], ds.pred[root] = 0, -1
 	ds.h.push(0, root)
 	for ds.h.len() > 0 {
 		k, v := ds.h.pop()
 		if k > ds.dist[v] {
 			continue
 		}
-		if k >= limit {
-			return -1
-		}
-		ds.popped = append(ds.popped, v)
 		if v == goal {
 			return k
 		}
+		ds.popped = append(ds.popped, v)
 		db.work++
+		if !n.transit(v, int(root)) {
+			continue
+		}
 		for _, a := range n.adj[n.start[v]:n.start[v+1]] {
 			db.work++
 			c := sv.legCost(d, a.edge)
 			if c < 0 {
 				continue
 			}
-			nk := min(k+c+db.rem[a.edge], dualInf)
+			nk := min(k+c+ds.w[a.edge], dualInf)
 			if dv := ds.dist[a.to]; dv < 0 || nk < dv {
 				if dv < 0 {
 					ds.touched = append(ds.touched, a.to)
 				}
-				ds.dist[a.to] = nk
+				ds.dist[a.to], ds.pred[a.to] = nk, a.edge
 				ds.h.push(nk, a.to)
 			}
 		}
