@@ -325,6 +325,16 @@ func (sv *solver) openCandidates() []openCand {
 			}
 		}
 	}
+	// The spans the lower bound's dual prices (lowerbound.go): a demand would pay for them,
+	// whether or not they lie on its cheapest route with every span free (a short closure
+	// or gap-fill that pays on its own). Most wanted first.
+	if sv.dual != nil {
+		for _, e := range sv.dual.wanted {
+			if sv.propIdx[e] >= 0 && st.count[e] == 0 {
+				addCand([]int32{e})
+			}
+		}
+	}
 	for i := range cands {
 		if small {
 			cands[i].affected = all
@@ -333,6 +343,9 @@ func (sv *solver) openCandidates() []openCand {
 		var aff []int32
 		for _, e := range cands[i].edges {
 			aff = append(aff, sv.optUsers[sv.propIdx[e]]...)
+			if sv.dual != nil {
+				aff = append(aff, sv.dual.wantBy[e]...)
+			}
 		}
 		slices.Sort(aff)
 		cands[i].affected = slices.Compact(aff)
@@ -624,6 +637,128 @@ func (sv *solver) openMoves() bool {
 	return changed
 }
 
+// swapWidth is the number of spans swapMoves tries in place of each opened span.
+const swapWidth = 6
+
+// swapMoves tries, at a local optimum of the other moves, exchanging an opened span for an
+// unopened one that the lower bound's dual prices (lowerbound.go) for some of its users:
+// close the one (forbid it), open the other (free), reroute the users of the first and the
+// demands that priced the second, then reroute them again at the plan's real prices; keep the
+// plan if it is cheaper. A swap that failed is not tried again until one of its demands
+// changes route. The reroutes are bounded by swapBudget × demands per solve.
+func (sv *solver) swapMoves() bool {
+	db := sv.dual
+	if db == nil || len(db.wanted) == 0 {
+		return false
+	}
+	changed := false
+	limit := swapBudget * max(len(sv.p.Demands), 1)
+	for _, out := range sv.proposed {
+		if sv.stopped() || sv.swapWork > limit || sv.gapClosed() {
+			break
+		}
+		st := sv.st
+		if st.count[out] == 0 {
+			continue
+		}
+		users := slices.Clone(st.users[out])
+		tried := 0
+		for _, in := range db.wanted {
+			if tried >= swapWidth || sv.swapWork > limit {
+				break
+			}
+			if sv.propIdx[in] < 0 || st.count[in] > 0 || in == out || !sharesAny(db.wantBy[in], users) {
+				continue
+			}
+			tried++
+			moved := append(slices.Clone(users), db.wantBy[in]...)
+			slices.Sort(moved)
+			moved = slices.Compact(moved)
+			sig := mix(mix(uint64(out), uint64(in)), 19)
+			for _, d := range moved {
+				sig = mix(sig, st.sig[d])
+			}
+			k := [2]int32{out, in}
+			if f, ok := sv.failedSwap[k]; ok && f == sig {
+				continue
+			}
+			if sv.trySwap(out, in, users, moved) {
+				changed = true
+				break
+			}
+			sv.failedSwap[k] = sig
+		}
+	}
+	return changed
+}
+
+// trySwap makes the swap of swapMoves and keeps it if the plan is cheaper.
+func (sv *solver) trySwap(out, in int32, users, moved []int32) bool {
+	before := sv.key()
+	sv.forbid[out] = true
+	for _, d := range users {
+		if !sv.joined(int(d)) {
+			sv.forbid[out] = false
+			return false
+		}
+	}
+	sv.setPhantom(in, true)
+	olds := make([]choice, len(moved))
+	done := 0
+	for i, d := range moved {
+		if sv.stopped() {
+			break
+		}
+		var nb choice
+		olds[i], nb = sv.rebest(int(d))
+		sv.add(int(d), nb)
+		done++
+	}
+	moved = moved[:done]
+	sv.setPhantom(in, false)
+	sv.flush()
+	for _, d := range moved {
+		if sv.stopped() {
+			break
+		}
+		sv.reroute(int(d))
+	}
+	sv.forbid[out] = false
+	sv.swapWork += 2 * len(moved)
+	if sv.key().less(before) {
+		sv.sbVer++
+		return true
+	}
+	for i := len(moved) - 1; i >= 0; i-- {
+		sv.remove(int(moved[i]))
+	}
+	for i, d := range moved {
+		sv.add(int(d), olds[i])
+	}
+	sv.flush()
+	sv.newEpoch() // memos recorded during the swap describe another plan
+	return false
+}
+
+// swapBudget bounds swapMoves' reroutes per demand per solve.
+const swapBudget = 40
+
+// sharesAny reports whether the ascending lists a and b share an element.
+func sharesAny(a, b []int32) bool {
+	i, j := 0, 0
+	for i < len(a) && j < len(b) {
+		switch {
+		case a[i] == b[j]:
+			return true
+		case a[i] < b[j]:
+			i++
+		default:
+			j++
+		}
+	}
+	return false
+}
+
 // improve runs local search rounds on the current state.
 func (sv *solver) improve() int {
 	rounds := 0
@@ -649,6 +784,9 @@ func (sv *solver) improve() int {
 			}
 		}
 		if sv.chOn && !sv.stopped() && sv.chargeMoves() {
+			changed = true
+		}
+		if moves && !changed && !sv.stopped() && !sv.gapClosed() && sv.swapMoves() {
 			changed = true
 		}
 		if !changed || sv.optima[sv.st.planH] || sv.gapClosed() {
@@ -840,6 +978,9 @@ func (sv *solver) kicks() {
 				sv.forbid[k.close] = true
 			}
 			for _, d := range moved {
+				if sv.stopped() {
+					return
+				}
 				_, nb := sv.rebest(int(d))
 				sv.add(int(d), nb)
 			}
@@ -855,6 +996,9 @@ func (sv *solver) kicks() {
 			// Reroute the demands the kick moved first: when that alone leads back to a known
 			// optimum, the descent would end there.
 			for _, d := range moved {
+				if sv.stopped() {
+					return
+				}
 				sv.reroute(int(d))
 			}
 			if !sv.optima[sv.st.planH] {
