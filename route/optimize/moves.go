@@ -851,7 +851,12 @@ func (sv *solver) place(d int) {
 
 func (sv *solver) run() {
 	sv.dual = sv.ascend()
-	sv.start(false)
+	warm := len(sv.warm) > 0
+	if warm {
+		sv.startWarm()
+	} else {
+		sv.start(false)
+	}
 	if !sv.gapClosed() {
 		sv.rounds = sv.improve()
 	}
@@ -862,24 +867,26 @@ func (sv *solver) run() {
 	if sv.length || fixed == 0 || sv.stopped() || sv.gapClosed() {
 		return
 	}
-	if len(sv.p.Demands)*fixed > maxSecondStart {
-		return
-	}
-	sv.flush()
-	first := sv.st
-	sv.start(true)
-	sv.rounds += sv.improve()
-	if sv.stopped() {
-		return
-	}
-	if !sv.key().less(first.key()) {
-		second := sv.st
-		sv.st = first
-		sv.dropState(second)
-		sv.recount()
-		sv.newEpoch()
-	} else {
-		sv.dropState(first)
+	if !warm {
+		if len(sv.p.Demands)*fixed > maxSecondStart {
+			return
+		}
+		sv.flush()
+		first := sv.st
+		sv.start(true)
+		sv.rounds += sv.improve()
+		if sv.stopped() {
+			return
+		}
+		if !sv.key().less(first.key()) {
+			second := sv.st
+			sv.st = first
+			sv.dropState(second)
+			sv.recount()
+			sv.newEpoch()
+		} else {
+			sv.dropState(first)
+		}
 	}
 	if len(sv.proposed) > 0 && len(sv.p.Demands)*len(sv.proposed) <= maxKickWork && !sv.gapClosed() {
 		sv.kicks()

@@ -24,15 +24,22 @@ type qualitySpec struct {
 	seed                   uint64
 }
 
-// qualityCampus builds the instance: campus with one medium per demand, no diverse demands
-// and unlimited ducts (the MILP of writeMIP models neither), its trench prices scaled so that
+// qualityCampus builds the instance: campus with one medium per demand and no reach limit, no
+// diverse demands and unlimited ducts (the MILP of writeMIP models neither), its trench prices scaled so that
 // the median trench costs ratio times one cable's cable and labour per metre.
 func qualityCampus(q qualitySpec) *Problem {
 	// campus prices trench at 9000–28000 cents a metre plus 1500.00 a span, times
 	// trenchScale; a cable pays about 400 cents of cable and 800 of labour a metre.
 	const trenchPerM, cablePerM = 16000.0, 1200.0
-	return campus(campusSpec{buildings: q.buildings, seed: q.seed, options: 1, proposedPct: q.proposedPct,
+	p := campus(campusSpec{buildings: q.buildings, seed: q.seed, options: 1, proposedPct: q.proposedPct,
 		trenchScale: q.ratio * cablePerM / trenchPerM})
+	// No reach limit: every demand is routable, and with y fixed each demand of the MILP is a
+	// shortest-path LP (writeMIP keeps its arcs continuous), which keeps CBC's solves short.
+	// The reach searches have their own exact tests (rcsp_test.go, oracle_test.go).
+	for d := range p.Demands {
+		p.Demands[d].Options[0].MaxRouteM = math.Inf(1)
+	}
+	return p
 }
 
 // qualitySpecs returns n instances spread over 100–300 buildings, 10–30 % proposed and

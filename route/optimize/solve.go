@@ -202,6 +202,8 @@ type solver struct {
 	joinSeen  []uint32
 	joinStamp uint32
 	joinQueue []int32
+	// warm is Settings.Start, the warm start (startWarm).
+	warm []StartRoute
 	// dual is the lower bound's ascent (lowerbound.go), nil for the length objective.
 	dual *dualBound
 }
@@ -221,6 +223,7 @@ func newSolver(p *Problem, opt Settings) *solver {
 		pen: make([]int64, ne), penOK: make([]bool, ne), penSt: make([]uint32, ne), self: make([]uint32, ne), own: make([]uint32, ne),
 		memos: make([]rerouteMemo, len(p.Demands)), qSt: make([]uint32, ne), qLevel: make([]uint8, ne),
 		selfSt: 1, ownSt: 1, // see endOwn
+		warm: opt.Start,
 	}
 	if sv.maxRounds == 0 {
 		sv.maxRounds = DefaultMaxRounds
