@@ -69,6 +69,7 @@ type dualBound struct {
 	budget []int64     // edge → budget b_e
 	rem    []int64     // edge → budget left
 	uses   [][]dualUse // demand → prices held
+	onPath [][]int32   // demand → budgeted edges of its cheapest path at its level
 	// wanted lists the proposed edges some demand priced (their budget is partly or wholly
 	// used: the dual says they may pay), fullest first; wantBy the demands that priced each.
 	wanted []int32
@@ -108,7 +109,7 @@ func (sv *solver) ascend() *dualBound {
 	}
 	p := sv.p
 	ne, nd := len(p.Edges), len(p.Demands)
-	db := &dualBound{level: make([]int64, nd), budget: make([]int64, ne), uses: make([][]dualUse, nd), wantBy: map[int32][]int32{}}
+	db := &dualBound{level: make([]int64, nd), budget: make([]int64, ne), uses: make([][]dualUse, nd), onPath: make([][]int32, nd), wantBy: map[int32][]int32{}}
 	copy(db.budget, sv.fixedE)
 	if sv.chOn {
 		for _, ch := range p.Charges {
@@ -255,6 +256,16 @@ func (sv *solver) ascend() *dualBound {
 				}
 				top = sv.dualRun(db, ds, d, s, t)
 			}
+			// The budgeted edges of d's cheapest path at its level: d wants them, priced or not
+			// (another demand may have spent their budget).
+			if top >= 0 && sv.dualRun(db, ds, d, s, t) >= 0 {
+				db.onPath[d] = db.onPath[d][:0]
+				for _, e := range ds.pathTo(sv.net, t, path[:0]) {
+					if db.budget[e] > 0 {
+						db.onPath[d] = append(db.onPath[d], e)
+					}
+				}
+			}
 			// Record d's prices (the edges priced above zero).
 			uses := db.uses[d][:0]
 			for _, e := range ds.wl {
@@ -282,10 +293,14 @@ func (db *dualBound) finish(nd int) *dualBound {
 				db.wantBy[u.edge] = append(db.wantBy[u.edge], int32(d))
 			}
 		}
+		for _, e := range db.onPath[d] {
+			db.wantBy[e] = append(db.wantBy[e], int32(d))
+		}
 	}
 	for e, ds := range db.wantBy {
 		db.wanted = append(db.wanted, e)
-		db.wantBy[e] = slices.Compact(ds) // ds ascending: demands were scanned in order
+		slices.Sort(ds)
+		db.wantBy[e] = slices.Compact(ds)
 	}
 	slices.SortFunc(db.wanted, func(a, b int32) int {
 		ra, rb := db.rem[a]*1000/max(db.budget[a], 1), db.rem[b]*1000/max(db.budget[b], 1)

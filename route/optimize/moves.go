@@ -335,6 +335,10 @@ func (sv *solver) openCandidates() []openCand {
 			}
 		}
 	}
+	var nodeUsers [][]int32
+	if sv.dual != nil && !small {
+		nodeUsers = sv.nodeUsers()
+	}
 	for i := range cands {
 		if small {
 			cands[i].affected = all
@@ -344,13 +348,43 @@ func (sv *solver) openCandidates() []openCand {
 		for _, e := range cands[i].edges {
 			aff = append(aff, sv.optUsers[sv.propIdx[e]]...)
 			if sv.dual != nil {
+				// The demands that priced it, and those whose routes pass its ends (the
+				// dual's budget may have gone to one demand while several would share the
+				// span), unless an end is a hub many routes pass.
 				aff = append(aff, sv.dual.wantBy[e]...)
+				for _, v := range [2]int{sv.p.Edges[e].From, sv.p.Edges[e].To} {
+					if len(nodeUsers[v]) <= maxNodeUsers {
+						aff = append(aff, nodeUsers[v]...)
+					}
+				}
 			}
 		}
 		slices.Sort(aff)
 		cands[i].affected = slices.Compact(aff)
 	}
 	return cands
+}
+
+// maxNodeUsers is the most routes through a span's end for which an open move of the span
+// reroutes them all.
+const maxNodeUsers = 64
+
+// nodeUsers returns, per node, the demands whose routes pass it, ascending.
+func (sv *solver) nodeUsers() [][]int32 {
+	out := make([][]int32, sv.p.Nodes)
+	for d, c := range sv.st.ch {
+		for _, leg := range c.legs {
+			for _, h := range leg {
+				ed := &sv.p.Edges[h.Edge]
+				for _, v := range [2]int{ed.From, ed.To} {
+					if n := len(out[v]); n == 0 || out[v][n-1] != int32(d) {
+						out[v] = append(out[v], int32(d))
+					}
+				}
+			}
+		}
+	}
+	return out
 }
 
 func int32Key(es []int32) []byte {
