@@ -104,7 +104,11 @@ func TestQualityAgainstCBC(t *testing.T) {
 	cbcPath(t)
 	specs := qualityQuick
 	if n, _ := strconv.Atoi(os.Getenv("SPANWRIGHT_SOAK_QUALITY")); n > 0 {
-		specs = qualitySpecs(n, 1700, 300)
+		most := 300 // SPANWRIGHT_SOAK_QUALITY_BUILDINGS lowers the largest campus
+		if m, _ := strconv.Atoi(os.Getenv("SPANWRIGHT_SOAK_QUALITY_BUILDINGS")); m >= 100 {
+			most = m
+		}
+		specs = qualitySpecs(n, 1700, most)
 	}
 	rows := make([]qualityRow, len(specs))
 	for i, q := range specs {
