@@ -26,7 +26,7 @@ func repriced(p *Problem, trench, cable float64) *Problem {
 // out of range, a leg that does not reach the anchor) are ignored.
 func TestWarmStart(t *testing.T) {
 	t.Parallel()
-	base := campus(campusSpec{buildings: 80, seed: 31, diverseFrac: 0.1, options: 3, capacity: true, proposedPct: 15})
+	base := campus(campusSpec{buildings: 40, seed: 31, diverseFrac: 0.1, options: 3, capacity: true, proposedPct: 15})
 	bs, err := Solve(base, Settings{})
 	if err != nil {
 		t.Fatal(err)
