@@ -50,9 +50,10 @@ const (
 	dualProbes = 16
 )
 
-// dualWork bounds the nodes and edges the ascent scans, over all passes: enough for every
-// pass on campuses of a few hundred buildings, a fixed amount of work beyond.
-const dualWork = 40_000_000
+// dualWork bounds the nodes and edges the ascent scans, over all passes: both passes on
+// campuses of about 100 buildings, a fixed amount of work beyond (a quarter of it where
+// demands × proposed spans exceed maxDualWork).
+const dualWork = 6_000_000
 
 // dualInf caps distances, far from int64 overflow.
 const dualInf = int64(1) << 61
@@ -142,6 +143,10 @@ func (sv *solver) ascend() *dualBound {
 			db.level[d] = free[d]
 		}
 	}
+	work := int64(dualWork)
+	if nd*len(sv.proposed) > maxDualWork {
+		work /= 4 // large campuses: the bound is looser, the solve stays fast
+	}
 	ds, dt := newDualSearch(sv.net.nodes, ne), newDualSearch(sv.net.nodes, 0)
 	dt.w = ds.w // the search back from the anchor prices the same w^d
 	var path []int32
@@ -151,7 +156,7 @@ func (sv *solver) ascend() *dualBound {
 			if free[d] < 0 || sv.stopped() {
 				continue
 			}
-			if db.work > dualWork {
+			if db.work > work {
 				return db.finish(nd)
 			}
 			for _, u := range db.uses[d] {

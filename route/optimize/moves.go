@@ -328,15 +328,21 @@ func (sv *solver) openCandidates() []openCand {
 	// The spans the lower bound's dual prices (lowerbound.go): a demand would pay for them,
 	// whether or not they lie on its cheapest route with every span free (a short closure
 	// or gap-fill that pays on its own). Most wanted first.
-	if sv.dual != nil {
+	dualCands := sv.dual != nil && len(sv.p.Demands)*len(sv.proposed) <= maxDualWork
+	if dualCands {
+		n := 0
 		for _, e := range sv.dual.wanted {
+			if n >= maxDualCands {
+				break
+			}
 			if sv.propIdx[e] >= 0 && st.count[e] == 0 {
 				addCand([]int32{e})
+				n++
 			}
 		}
 	}
 	var nodeUsers [][]int32
-	if sv.dual != nil && !small {
+	if dualCands && !small {
 		nodeUsers = sv.nodeUsers()
 	}
 	for i := range cands {
@@ -347,7 +353,7 @@ func (sv *solver) openCandidates() []openCand {
 		var aff []int32
 		for _, e := range cands[i].edges {
 			aff = append(aff, sv.optUsers[sv.propIdx[e]]...)
-			if sv.dual != nil {
+			if dualCands {
 				// The demands that priced it, and those whose routes pass its ends (the
 				// dual's budget may have gone to one demand while several would share the
 				// span), unless an end is a hub many routes pass.
@@ -364,6 +370,15 @@ func (sv *solver) openCandidates() []openCand {
 	}
 	return cands
 }
+
+// maxDualCands is the most dual-priced spans one pass of open moves tries besides the spans
+// on cheapest routes; maxDualWork bounds demands × proposed spans for which it tries them
+// (campuses of up to about 300 buildings: on larger ones their estimates cost more than
+// the rest of the solve).
+const (
+	maxDualCands = 32
+	maxDualWork  = 100000
+)
 
 // maxNodeUsers is the most routes through a span's end for which an open move of the span
 // reroutes them all.
@@ -775,7 +790,7 @@ func (sv *solver) trySwap(out, in int32, users, moved []int32) bool {
 }
 
 // swapBudget bounds swapMoves' reroutes per demand per solve.
-const swapBudget = 40
+const swapBudget = 4
 
 // sharesAny reports whether the ascending lists a and b share an element.
 func sharesAny(a, b []int32) bool {
