@@ -10,35 +10,36 @@ import (
 // Magnanti and Wong, "A dual-ascent procedure for large-scale uncapacitated network design",
 // Operations Research 37(5), 1989.
 //
-// The relaxation keeps, per demand d, its routes as paths from its free end to its anchor and
-// the linking x_e^d ≤ y_e between its use of edge e and e's opening; it drops reach, duct
-// capacity, transit-free nodes, edge-group and node disjointness (each only removes plans),
-// prices every edge at the cheapest of d's media that may use it, and counts the cheapest
-// option cost of d. A charge (Problem.Charges) is a fixed charge split evenly over its edges
-// (a route that uses k of its edges is credited k shares, and all users together at most the
-// charge), so each edge e has a budget b_e: its FixedCents (proposed, AllowNew) and its
-// charges' shares.
+// The relaxation keeps, per demand d, its routes as paths from its free end to its anchor
+// that pass no transit-free node, and the linking x_e^d ≤ y_e between its use of edge e and
+// e's opening; it drops reach, duct capacity, edge-group and node disjointness (each only
+// removes plans), prices every edge at the cheapest of d's media that may use it, and counts
+// the cheapest option cost of d. A charge (Problem.Charges) is a fixed charge split evenly over
+// its edges (a route that uses k of its edges is credited k shares, and all users together at
+// most the charge); an edge whose ducts are full (and may get more) has its first added duct
+// and that duct's trench as a fixed charge, when every medium's cable takes duct area; other
+// added ducts are priced at 0. So each edge e has a budget b_e.
 //
 // The dual gives each demand d a price w_e^d ≥ 0 on each edge, with Σ_d w_e^d ≤ b_e; any such
 // prices bound every plan from below by Σ_d (option cost + legs × SP_d(c + w^d)), SP_d the
-// cheapest path of d with edge weights c_e^d + w_e^d: a plan pays each opened edge's budget
-// at least once, which covers every w_e^d of the demands that use it (a diverse pair's legs
-// share no edge, so they take each w_e^d at most once). Potentials π_v = L − min(ℓ_v, L), with
-// ℓ the shortest distances from the anchor over c + (budget left) and L ≤ ℓ(free end), are
-// dual feasible when d takes w_e^d = max(0, |ℓ'_u − ℓ'_v| − c_e) (ℓ' = min(ℓ, L)), which
-// never exceeds the budget left; L is then d's level, a lower bound of SP_d(c + w^d).
+// cheapest path of d with edge weights c_e^d + w_e^d: a plan pays each used edge's budget at
+// least once, which covers every w_e^d of the demands that use it (a diverse pair's legs share
+// no edge, so they take each w_e^d at most once).
 //
-// The ascent raises the demands in turn, in dualPasses passes: pass j lifts each demand's
-// level a (j/dualPasses) share of the way from the cheapest path without budgets to the
-// highest level the budgets left allow (after giving back its own prices), so that early
-// demands do not take whole budgets that later ones share (BMW raise one cut at a time,
-// round-robin; the passes are a coarser form of the same fairness). A demand's level never
-// falls between passes. The work (nodes and edges scanned) is capped by dualWork; demands the
+// Choosing the prices is the heuristic part. For each demand in turn (dualPasses passes, a
+// demand keeping its prices between passes), repeat: find the cheapest path; raise the price
+// of one of its budgeted edges (fullest budget first, dualProbes tried) by exactly what the
+// cheapest path then gains, so that no budget is spent that does not raise the bound; when no
+// single edge gains (the path has an equally cheap alternative), raise the budgeted edges of
+// every cheapest path together by the least budget left among them, and keep of each only
+// max(0, |π_u − π_v| − c_e), π the new distances from the free end capped at the new level —
+// feasible potentials, so the level is the new cheapest path, and a raise the path did not
+// need goes back to the budget. The work (nodes and edges scanned) is capped; demands the
 // ascent does not reach keep the bound of their cheapest path with every proposed edge free.
 //
 // The bound holds for every plan that routes the same demands and gives each diverse demand
 // at least as many legs as the plan does (the optimizer ranks unrouted demands and missing
-// pairs before cost, so those are the plans it compares). Added ducts are priced at 0.
+// pairs before cost, so those are the plans it compares).
 
 // dualPasses is the number of passes of the ascent.
 const dualPasses = 2

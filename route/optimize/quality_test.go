@@ -105,7 +105,7 @@ func TestQualityAgainstCBC(t *testing.T) {
 	specs, limit := qualityQuick, 300*time.Second
 	if n, _ := strconv.Atoi(os.Getenv("SPANWRIGHT_SOAK_QUALITY")); n > 0 {
 		limit = 1800 * time.Second // CBC takes minutes on some campuses of 120 buildings
-		most := 300 // SPANWRIGHT_SOAK_QUALITY_BUILDINGS lowers the largest campus
+		most := 300                // SPANWRIGHT_SOAK_QUALITY_BUILDINGS lowers the largest campus
 		if m, _ := strconv.Atoi(os.Getenv("SPANWRIGHT_SOAK_QUALITY_BUILDINGS")); m >= 100 {
 			most = m
 		}

@@ -305,7 +305,7 @@ type Summary struct {
 	// ModelCents is the legs' costs summed (each leg's bill items priced one by one, its
 	// share of new trench and added duct; no building panels or enclosures, no markups): the
 	// cost model the routes were chosen by (README, "One cost model"), not a price.
-	ModelCents       int64            `json:"model_cents"`
+	ModelCents int64 `json:"model_cents"`
 	// ObjectiveCents is what the optimizer minimised for these routes (route.Result
 	// .ObjectiveCents); LowerBound is its proved lower bound over every plan serving the same
 	// legs, and Gap = (ObjectiveCents − LowerBound) / LowerBound: no plan of these legs costs

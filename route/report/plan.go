@@ -212,8 +212,8 @@ type planView struct {
 	// Bound and Gap are the optimizer's proved lower bound on its objective and the gap of the
 	// routes to it (output.Summary.LowerBound, Gap); Bound is "" without a bound.
 	Objective, Bound, Gap string
-	Warnings   []string
-	Buildings  []buildingRow
+	Warnings              []string
+	Buildings             []buildingRow
 }
 
 type legendItem struct {
