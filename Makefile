@@ -45,9 +45,12 @@ lint:
 race:
 	$(GO) test -race -count=1 ./...
 
-# the metamorphic properties (route/metamorphic) on 300 generated campuses of 40 buildings and
-# 20 of 300, instead of make test's 8 of 40 (not part of make test; about half an hour).
+# the optimizer against CBC on 24 generated campuses of 100-300 buildings (route/optimize,
+# TestQualityAgainstCBC; hours: CBC takes minutes on the larger ones), then the metamorphic
+# properties (route/metamorphic) on 300 generated campuses of 40 buildings and 20 of 300,
+# instead of make test's 8 of 40 (not part of make test).
 soak:
+	SPANWRIGHT_SOAK_QUALITY=24 $(GO) test -count=1 -timeout 6h -run TestQualityAgainstCBC -v ./route/optimize/
 	SPANWRIGHT_SOAK=300 $(GO) test -count=1 -timeout 2h ./route/metamorphic/
 	SPANWRIGHT_SOAK=20 SPANWRIGHT_SOAK_BUILDINGS=300 $(GO) test -count=1 -timeout 2h ./route/metamorphic/
 

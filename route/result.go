@@ -37,6 +37,9 @@ type Result struct {
 	// ObjectiveCents is the optimizer's objective for the routes it returned
 	// (optimize.Solution.TotalCents): see the README's "One cost model".
 	ObjectiveCents int64
+	// LowerBoundCents is a proved lower bound on ObjectiveCents over every plan that serves the
+	// same legs (routing.Routed.LowerBoundCents); -1 when none was computed (length objective).
+	LowerBoundCents int64
 
 	// Estimate is the installation takeoff and priced bill of materials (see Estimate).
 	Estimate *estimate.Estimate
@@ -98,7 +101,7 @@ func SolveWith(ctx context.Context, s *site.Site, p *plan.Plan, eng *media.Engin
 		return nil, err
 	}
 	r := &Result{Plan: p, Site: s, Hub: hub, Links: links, Legs: rt.Legs, Currency: eng.PriceBook().Currency, Engine: eng,
-		Opened: rt.Opened, Handholes: rt.Handholes, Fill: rt.Fill, ObjectiveCents: rt.ObjectiveCents, Notes: pr.notes}
+		Opened: rt.Opened, Handholes: rt.Handholes, Fill: rt.Fill, ObjectiveCents: rt.ObjectiveCents, LowerBoundCents: rt.LowerBoundCents, Notes: pr.notes}
 	for _, w := range s.Net.Warnings {
 		r.Warnings = append(r.Warnings, w.File+": "+w.Feature+": "+w.Message)
 	}

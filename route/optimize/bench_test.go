@@ -2,6 +2,7 @@ package optimize
 
 import (
 	"fmt"
+	"math"
 	"sync"
 	"testing"
 )
@@ -89,5 +90,48 @@ func BenchmarkSolveTransitCharges(b *testing.B) {
 				b.ReportMetric(float64(sol.Rounds), "rounds")
 			})
 		}
+	}
+}
+
+// BenchmarkPriceSweep solves 100 price-book scenarios (trench ×0.25–4, cable ×0.5–2, on a
+// 7 × 7 × 2 grid less one) of the 1,000-building campus of BenchmarkSolve, one op being the
+// whole sweep: "cold" solves each from scratch, "warm" starts each from the base scenario's
+// plan (Settings.Start; the base solve is included), so every scenario's start is the same
+// whatever the order or number of workers.
+func BenchmarkPriceSweep(b *testing.B) {
+	base := benchCampus(1000)
+	var scen []*Problem
+	for i := 0; len(scen) < 100; i++ {
+		tr := 0.25 * math.Pow(16, float64(i%7)/6)
+		cb := 0.5 * math.Pow(4, float64(i/7%7)/6)
+		if i/49 == 1 {
+			cb *= 1.1
+		}
+		scen = append(scen, repriced(base, tr, cb))
+	}
+	for _, mode := range []string{"cold", "warm"} {
+		b.Run(mode, func(b *testing.B) {
+			b.ReportAllocs()
+			var total int64
+			for i := 0; i < b.N; i++ {
+				var start []StartRoute
+				if mode == "warm" {
+					bs, err := Solve(base, Settings{})
+					if err != nil {
+						b.Fatal(err)
+					}
+					start = StartFrom(bs)
+				}
+				total = 0
+				for _, p := range scen {
+					sol, err := Solve(p, Settings{Start: start})
+					if err != nil {
+						b.Fatal(err)
+					}
+					total += sol.TotalCents
+				}
+			}
+			b.ReportMetric(float64(total)/100, "cents/scenario")
+		})
 	}
 }

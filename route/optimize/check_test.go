@@ -19,6 +19,9 @@ func verify(t *testing.T, name string, p *Problem, sol *Solution) {
 }
 
 func verifyErr(p *Problem, sol *Solution) error {
+	if sol.LowerBoundCents > sol.TotalCents {
+		return fmt.Errorf("lower bound %d above the plan's cost %d", sol.LowerBoundCents, sol.TotalCents)
+	}
 	if len(sol.Routes) != len(p.Demands) {
 		return fmt.Errorf("got %d routes, want %d", len(sol.Routes), len(p.Demands))
 	}

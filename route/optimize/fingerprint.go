@@ -18,6 +18,21 @@ func Fingerprint(p *Problem, opt Settings) (sum [sha256.Size]byte, ok bool) {
 	f := fingerprinter{b: make([]byte, 0, 64*len(p.Edges)+96*len(p.Demands)+64)}
 	f.str(opt.Objective)
 	f.int(int64(opt.MaxRounds))
+	if len(opt.Start) > 0 { // only when given: the bytes without a start are as before
+		f.int(int64(len(opt.Start)))
+		for _, r := range opt.Start {
+			f.str(r.ID)
+			f.int(int64(r.Option))
+			f.int(int64(len(r.Legs)))
+			for _, leg := range r.Legs {
+				f.int(int64(len(leg)))
+				for _, h := range leg {
+					f.int(int64(h.Edge))
+					f.bool(h.Forward)
+				}
+			}
+		}
+	}
 	f.int(int64(p.Nodes))
 	f.bool(p.AllowNew)
 	f.int(int64(len(p.Edges)))

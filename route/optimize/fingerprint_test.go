@@ -123,6 +123,8 @@ func bump(v reflect.Value) {
 		}
 	case reflect.Bool:
 		v.SetBool(!v.Bool())
+	case reflect.Slice: // Settings.Start: one more (zero) element
+		v.Set(reflect.Append(v, reflect.Zero(v.Type().Elem())))
 	default:
 		panic("bump: unhandled kind " + v.Kind().String())
 	}

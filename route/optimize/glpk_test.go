@@ -124,9 +124,10 @@ func writeMIP(p *Problem) (lp string, constant int64) {
 	return b.String(), constant
 }
 
-// runGLPK solves the LP file with glpsol and returns the objective and whether it was proved
-// optimal.
-func runGLPK(t *testing.T, lp string, limit time.Duration) (obj float64, optimal bool) {
+// runMIPTool writes lp to a temporary file, runs bin with the arguments args makes of the LP
+// and solution paths (killed limit + 30 s on), and returns the solution file's text and the
+// tool's output.
+func runMIPTool(t testing.TB, bin, lp string, limit time.Duration, args func(lpPath, solPath string) []string) (sol, out string) {
 	t.Helper()
 	dir := t.TempDir()
 	lpPath, solPath := filepath.Join(dir, "model.lp"), filepath.Join(dir, "model.sol")
@@ -135,18 +136,27 @@ func runGLPK(t *testing.T, lp string, limit time.Duration) (obj float64, optimal
 	}
 	ctx, cancel := context.WithTimeout(context.Background(), limit+30*time.Second)
 	defer cancel()
-	cmd := exec.CommandContext(ctx, "glpsol", "--lp", lpPath, "--tmlim", strconv.Itoa(int(limit.Seconds())), "-w", solPath)
-	var out bytes.Buffer
-	cmd.Stdout, cmd.Stderr = &out, &out
+	cmd := exec.CommandContext(ctx, bin, args(lpPath, solPath)...)
+	var buf bytes.Buffer
+	cmd.Stdout, cmd.Stderr = &buf, &buf
 	if err := cmd.Run(); err != nil {
-		t.Fatalf("glpsol: %v\n%s", err, out.String())
+		t.Fatalf("%s: %v\n%s", bin, err, buf.String())
 	}
-	f, err := os.Open(solPath)
+	data, err := os.ReadFile(solPath)
 	if err != nil {
-		t.Fatal(err)
+		t.Fatalf("%s wrote no solution: %v\n%s", bin, err, buf.String())
 	}
-	defer f.Close()
-	sc := bufio.NewScanner(f)
+	return string(data), buf.String()
+}
+
+// runGLPK solves the LP file with glpsol and returns the objective and whether it was proved
+// optimal.
+func runGLPK(t *testing.T, lp string, limit time.Duration) (obj float64, optimal bool) {
+	t.Helper()
+	sol, out := runMIPTool(t, "glpsol", lp, limit, func(lpPath, solPath string) []string {
+		return []string{"--lp", lpPath, "--tmlim", strconv.Itoa(int(limit.Seconds())), "-w", solPath}
+	})
+	sc := bufio.NewScanner(strings.NewReader(sol))
 	for sc.Scan() {
 		fs := strings.Fields(sc.Text())
 		// Solution line of glpsol's -w format for a MIP: "s mip ROWS COLS STATUS OBJ".
@@ -158,7 +168,7 @@ func runGLPK(t *testing.T, lp string, limit time.Duration) (obj float64, optimal
 			return v, fs[4] == "o"
 		}
 	}
-	t.Fatalf("glpsol wrote no MIP solution line\n%s", out.String())
+	t.Fatalf("glpsol wrote no MIP solution line\n%s", out)
 	return 0, false
 }
 

@@ -255,6 +255,10 @@ func oracleRun(t *testing.T, instances, minExactPct int, maxGapPct float64, gen 
 						}
 					}
 				}
+				if err == nil && sol.LowerBoundCents > opt {
+					// The bound must hold for the exact optimum (lowerbound.go).
+					err = fmt.Errorf("lower bound %d above the exact optimum %d", sol.LowerBoundCents, opt)
+				}
 				res := result{opt: opt, err: err}
 				if sol != nil {
 					res.got, res.paid = sol.TotalCents, len(sol.Charged) > 0

@@ -161,6 +161,40 @@ type Settings struct {
 	Objective string
 	// MaxRounds bounds the rip-up-and-reroute rounds; 0 means DefaultMaxRounds.
 	MaxRounds int
+	// Start is a warm start: per demand, in demand order, a route to begin the search from
+	// (StartFrom makes one from an earlier Solution of a problem on the same network, such as
+	// the same campus under other prices). Nil means none. A start route that does not fit
+	// the problem (another demand ID, an option or edge out of range, legs that do not join
+	// the demand's ends, an edge its medium may not use, beyond its reach, through a
+	// transit-free node, or a pair that shares an edge, interior node or group) is ignored
+	// and its demand placed as without a start. With a start, Solve skips its second start
+	// (every proposed edge free), whose purpose the start serves. The answer depends on the
+	// start: the same problem and start give the same solution.
+	Start []StartRoute
+}
+
+// StartRoute is one demand's route in Settings.Start.
+type StartRoute struct {
+	ID     string  // the demand's ID, which must match
+	Option int     // index into Demand.Options; -1: no route (the demand is placed afresh)
+	Legs   [][]Hop // the legs, each from Source to Target
+}
+
+// StartFrom returns the routes of sol as a warm start (Settings.Start).
+func StartFrom(sol *Solution) []StartRoute {
+	out := make([]StartRoute, len(sol.Routes))
+	for i, r := range sol.Routes {
+		out[i] = StartRoute{ID: r.ID, Option: r.Option}
+		if !r.Feasible {
+			out[i].Option = -1
+			continue
+		}
+		out[i].Legs = append(out[i].Legs, r.Primary.Hops)
+		if len(r.Secondary.Hops) > 0 {
+			out[i].Legs = append(out[i].Legs, r.Secondary.Hops)
+		}
+	}
+	return out
 }
 
 // ErrInvalidProblem is wrapped by every error about a malformed Problem or Settings.

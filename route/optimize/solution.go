@@ -149,4 +149,10 @@ type Solution struct {
 	TotalCents int64        // Σ Routes[i].Cost.Total()
 	TotalM     float64      // Σ route metres over all legs
 	Rounds     int          // improvement rounds run
+	// LowerBoundCents is a proved lower bound, in cents, on the cost of every plan that routes
+	// the same demands as this one and gives each diverse demand at least as many legs
+	// (lowerbound.go: a dual ascent on the linear relaxation of the fixed-charge network design
+	// problem); TotalCents − LowerBoundCents bounds what a better plan could save. It is -1 for
+	// the length objective, which computes no bound.
+	LowerBoundCents int64
 }

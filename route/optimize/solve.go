@@ -119,10 +119,12 @@ type solver struct {
 	plainBounds bool    // bound serves the plain trees only (see bound)
 	roundNo     int     // local search rounds begun, for rebuilding loose plan trees
 
-	failedClose map[int32]uint64  // edge → signature of its users when closing it failed
-	failedOpen  map[string]uint64 // candidate → signature of its demands when opening failed
-	lenTrees    []*tree           // slot × exclusion classes + class
-	comps       map[uint64][]int  // excluded flags → component label per node (for reasons)
+	failedClose map[int32]uint64    // edge → signature of its users when closing it failed
+	failedOpen  map[string]uint64   // candidate → signature of its demands when opening failed
+	failedSwap  map[[2]int32]uint64 // (opened span, span) → signature of its demands when the swap failed
+	swapWork    int                 // reroutes swapMoves made
+	lenTrees    []*tree             // slot × exclusion classes + class
+	comps       map[uint64][]int    // excluded flags → component label per node (for reasons)
 
 	cap capacity
 	st  *state
@@ -200,6 +202,10 @@ type solver struct {
 	joinSeen  []uint32
 	joinStamp uint32
 	joinQueue []int32
+	// warm is Settings.Start, the warm start (startWarm).
+	warm []StartRoute
+	// dual is the lower bound's ascent (lowerbound.go), nil for the length objective.
+	dual *dualBound
 }
 
 func newSolver(p *Problem, opt Settings) *solver {
@@ -210,12 +216,14 @@ func newSolver(p *Problem, opt Settings) *solver {
 		lenClass: map[uint64]int{}, fixedE: make([]int64, ne), limited: make([]bool, ne), tracked: make([]bool, ne),
 		ductCent: make([]int64, ne), trenchCent: make([]int64, ne), groups: map[int][]int32{},
 		propIdx: make([]int32, ne), comps: map[uint64][]int{}, anchorSlot: make([]int32, max(p.Nodes, 0)),
-		failedClose: map[int32]uint64{}, failedOpen: map[string]uint64{}, estMemo: map[estKey]estRec{},
+		failedClose: map[int32]uint64{}, failedOpen: map[string]uint64{}, failedSwap: map[[2]int32]uint64{}, estMemo: map[estKey]estRec{},
 		cap:    capacity{edges: p.Edges, fits: p.Fits},
 		forbid: make([]bool, ne), phantom: make([]bool, ne), blk: make([]uint32, ne),
 		srch: newSearch[int64](net), rc: newRCSPScratch(net), ps: newPairScratch(net),
 		pen: make([]int64, ne), penOK: make([]bool, ne), penSt: make([]uint32, ne), self: make([]uint32, ne), own: make([]uint32, ne),
 		memos: make([]rerouteMemo, len(p.Demands)), qSt: make([]uint32, ne), qLevel: make([]uint8, ne),
+		selfSt: 1, ownSt: 1, // see endOwn
+		warm: opt.Start,
 	}
 	if sv.maxRounds == 0 {
 		sv.maxRounds = DefaultMaxRounds

@@ -327,7 +327,15 @@ type Summary struct {
 	// ModelCents is the legs' costs summed (each leg's bill items priced one by one, its
 	// share of new trench and added duct; no building panels or enclosures, no markups): the
 	// cost model the routes were chosen by (README, "One cost model"), not a price.
-	ModelCents       int64            `json:"model_cents"`
+	ModelCents int64 `json:"model_cents"`
+	// ObjectiveCents is what the optimizer minimised for these routes (route.Result
+	// .ObjectiveCents); LowerBound is its proved lower bound over every plan serving the same
+	// legs, and Gap = (ObjectiveCents − LowerBound) / LowerBound: no plan of these legs costs
+	// less than the bound, so a better plan saves at most that share. Both null with the length
+	// objective (no bound is computed).
+	ObjectiveCents   int64            `json:"objective_cents"`
+	LowerBound       *int64           `json:"lower_bound"`
+	Gap              *float64         `json:"gap"`
 	CostByCategory   map[string]int64 `json:"cost_by_category_cents"` // BOM subtotals: material, labour, construction, optics
 	SubtotalCents    int64            `json:"subtotal_cents"`
 	ContingencyCents int64            `json:"contingency_cents"`
@@ -401,6 +409,8 @@ func Summarize(r *route.Result) Summary {
 		s.RunHandholes = len(r.Estimate.Construction.RunHandholes)
 		s.Entrances = len(r.Estimate.Construction.Entrances)
 	}
+	s.ObjectiveCents = r.ObjectiveCents
+	s.LowerBound, s.Gap = BoundGap(r.ObjectiveCents, r.LowerBoundCents)
 	s.ModelCents += r.ExtraCents
 	s.TotalCents = s.ModelCents
 	s.WarningCounts = map[string]int{"network": len(r.Site.Net.Warnings)}
@@ -450,12 +460,35 @@ func Summarize(r *route.Result) Summary {
 	return s
 }
 
+// BoundGap returns the lower bound and the gap (objective − bound) / bound, rounded to six
+// decimals, as summary.json writes them: both nil when there is no bound (bound < 0), the gap
+// nil when the bound is 0.
+func BoundGap(objectiveCents, boundCents int64) (bound *int64, gap *float64) {
+	if boundCents < 0 {
+		return nil, nil
+	}
+	b := boundCents
+	if b == 0 {
+		return &b, nil
+	}
+	g := math.Round(1e6*float64(objectiveCents-b)/float64(b)) / 1e6
+	return &b, &g
+}
+
 func summaryJSON(r *route.Result) ([]byte, error) {
 	b, err := json.MarshalIndent(Summarize(r), "", "  ")
 	if err != nil {
 		return nil, fmt.Errorf("summary: %w", err)
 	}
 	return append(b, '\n'), nil
+}
+
+// gapText formats a gap (a fraction) in percent; "—" for none.
+func gapText(g *float64) string {
+	if g == nil {
+		return "—"
+	}
+	return strconv.FormatFloat(100**g, 'f', 2, 64) + " %"
 }
 
 // PrintSummary writes a short human summary of the result: links and legs, media, cable
@@ -516,6 +549,14 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 	if s.CrossingLegs > 0 || s.TurnHandholes > 0 {
 		fmt.Fprintf(w, "legs through a building: %d; handholes to add where a route turns between pathways: %d (see links.csv)\n",
 			s.CrossingLegs, s.TurnHandholes)
+	}
+	if s.LowerBound != nil {
+		closed := ""
+		if s.Gap != nil && *s.Gap <= 1e-9 {
+			closed = " (proved optimal)"
+		}
+		fmt.Fprintf(w, "optimizer: routes %s by the cost model, proved lower bound %s, gap %s%s\n",
+			media.FormatCents(s.ObjectiveCents), media.FormatCents(*s.LowerBound), gapText(s.Gap), closed)
 	}
 	e := r.Estimate
 	if e == nil || e.BOM == nil {

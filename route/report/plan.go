@@ -209,8 +209,11 @@ type planView struct {
 	BOMLabel   string
 	Subtotal   string
 	ModelCost  string
-	Warnings   []string
-	Buildings  []buildingRow
+	// Bound and Gap are the optimizer's proved lower bound on its objective and the gap of the
+	// routes to it (output.Summary.LowerBound, Gap); Bound is "" without a bound.
+	Objective, Bound, Gap string
+	Warnings              []string
+	Buildings             []buildingRow
 }
 
 type legendItem struct {
@@ -387,6 +390,12 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 	}
 	v.Fill, v.FillOver, v.FillOpen = fillRows(r)
 	v.ModelCost = money(s.ModelCents)
+	if s.LowerBound != nil {
+		v.Objective, v.Bound, v.Gap = money(s.ObjectiveCents), money(*s.LowerBound), "—"
+		if s.Gap != nil {
+			v.Gap = strconv.FormatFloat(100**s.Gap, 'f', 2, 64) + " %"
+		}
+	}
 	if e := r.Estimate; e != nil && e.BOM != nil {
 		v.HasEst = true
 		v.BOMLabel = e.BOM.Label

@@ -31,6 +31,10 @@ type Routed struct {
 	// ObjectiveCents is the optimizer's objective for the routes it returned
 	// (optimize.Solution.TotalCents) plus ConstantCents: see the README's "One cost model".
 	ObjectiveCents int64
+	// LowerBoundCents is the optimizer's proved lower bound on that objective for every plan
+	// serving the same legs (optimize.Solution.LowerBoundCents); -1 when none was computed
+	// (the length objective).
+	LowerBoundCents int64
 	// ConstantCents is what the plan pays whatever its routes: the entrances of buildings with
 	// one (items.Entrance), used as soon as a leg ends there.
 	ConstantCents int64
@@ -69,7 +73,7 @@ func Solve(ctx context.Context, s *site.Site, m *Model, links []site.Link) (*Rou
 		}
 		return nil, fmt.Errorf("route: optimizer: %w", err)
 	}
-	r := &Routed{ObjectiveCents: sol.TotalCents, Fill: fillReport(s, prob, sol)}
+	r := &Routed{ObjectiveCents: sol.TotalCents, LowerBoundCents: sol.LowerBoundCents, Fill: fillReport(s, prob, sol)}
 	for _, e := range sol.Opened {
 		r.Opened = append(r.Opened, s.Net.Spans[e].ID)
 	}
@@ -104,6 +108,9 @@ func Solve(ctx context.Context, s *site.Site, m *Model, links []site.Link) (*Rou
 		}
 	}
 	r.ObjectiveCents += r.ConstantCents
+	if r.LowerBoundCents >= 0 {
+		r.LowerBoundCents += r.ConstantCents // paid by every plan alike
+	}
 	return r, nil
 }
 

@@ -244,7 +244,27 @@ var fixedColumns = []column{
 	intCol("warnings", "warnings", func(r *Row) int { return r.Warnings }),
 	textCol("error", "error", func(j judged) string { return oneLine(j.Error) }),
 	textCol("note", "note", func(j judged) string { return j.Note }),
+	// The optimizer's objective, proved lower bound and gap, last so that readers of the
+	// columns before them stay valid.
+	moneyCol("objective", "optimizer objective", func(r *Row) int64 { return r.ObjectiveCents }, planned),
+	moneyCol("lower_bound", "proved lower bound", func(r *Row) int64 { return *r.LowerBoundCents }, bounded),
+	{"gap", "gap to the bound", "",
+		func(j judged) string {
+			if !bounded(j) || j.Gap == nil {
+				return ""
+			}
+			return strconv.FormatFloat(*j.Gap, 'f', 6, 64)
+		},
+		func(j judged) workbook.Cell {
+			if !bounded(j) || j.Gap == nil {
+				return workbook.Blank()
+			}
+			return workbook.Number(*j.Gap, 6)
+		}},
 }
+
+// bounded reports whether the row is planned with a lower bound.
+func bounded(j judged) bool { return planned(j) && j.LowerBoundCents != nil }
 
 func oneLine(s string) string { return strings.ReplaceAll(strings.TrimSpace(s), "\n", "; ") }
 

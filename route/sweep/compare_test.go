@@ -108,10 +108,13 @@ func TestMoney(t *testing.T) {
 	}
 }
 
+func ip(v int64) *int64 { return &v }
+
 func TestCompareMarkdown(t *testing.T) {
 	t.Parallel()
 	rows := []Row{
-		{Index: 0, ID: "a-1", Set: [][2]string{{"hub", "A|B"}}, Status: StatusOK, Currency: "EUR", TotalCents: 150, BudgetCents: 100, OverBudgetCents: 50, WorstMarginDB: fp(1.234), MediaMix: "os2:2"},
+		{Index: 0, ID: "a-1", Set: [][2]string{{"hub", "A|B"}}, Status: StatusOK, Currency: "EUR", TotalCents: 150, BudgetCents: 100, OverBudgetCents: 50, WorstMarginDB: fp(1.234), MediaMix: "os2:2",
+			ObjectiveCents: 120, LowerBoundCents: ip(100), Gap: fp(0.2)},
 		{Index: 1, ID: "b-2", Case: "b", Status: StatusFailed, Error: "b-2/plan.yaml: hub: bad\nsecond line"},
 	}
 	files, err := Compare(rows, []string{"hub"})
@@ -138,7 +141,8 @@ func TestCompareMarkdown(t *testing.T) {
 			t.Errorf("compare.md lacks %q:\n%s", want, md)
 		}
 	}
-	if !strings.Contains(csvText, "0,a-1,,A|B,ok,EUR,1.50,1.00,0.50,0,1.23,0.0,0,0,os2:2,1,yes,0,,\n") {
+	// The optimizer's objective, bound and gap come last (objective, lower_bound, gap).
+	if !strings.Contains(csvText, "0,a-1,,A|B,ok,EUR,1.50,1.00,0.50,0,1.23,0.0,0,0,os2:2,1,yes,0,,,1.20,1.00,0.200000\n") {
 		t.Errorf("compare.csv:\n%s", csvText)
 	}
 }
@@ -207,7 +211,7 @@ func TestComparePayloads(t *testing.T) {
 			if rec[1] != p.csv || rec[2] != p.csv || rec[3] != p.csv {
 				t.Errorf("%s: compare.csv id, case, hub: got %q, want %q each", p.name, rec[1:4], p.csv)
 			}
-			if got := rec[len(rec)-10]; got != "-1.50" {
+			if got := rec[len(rec)-13]; got != "-1.50" {
 				t.Errorf("%s: compare.csv worst margin: got %q, want the number -1.50", p.name, got)
 			}
 			line := table[i+2]

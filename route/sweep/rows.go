@@ -54,6 +54,12 @@ type Row struct {
 	// DemoPrices is set when the invented demo price book built into spanwright priced the
 	// scenario (output.Summary.DemoPrices).
 	DemoPrices bool `json:"demo_prices,omitempty"`
+	// ObjectiveCents, LowerBoundCents and Gap are the optimizer's objective, its proved lower
+	// bound and their gap (output.Summary.ObjectiveCents, LowerBound, Gap); the bound and gap
+	// are nil with the length objective, and in rows files written before they existed.
+	ObjectiveCents  int64    `json:"objective_cents"`
+	LowerBoundCents *int64   `json:"lower_bound_cents,omitempty"`
+	Gap             *float64 `json:"gap,omitempty"`
 }
 
 func newRow(sc Scenario) Row {
@@ -81,6 +87,7 @@ func (r *Row) fill(s output.Summary) {
 	r.Warnings = s.WarningCount
 	r.Note = strings.Join(s.Notes, "; ")
 	r.DemoPrices = s.DemoPrices != ""
+	r.ObjectiveCents, r.LowerBoundCents, r.Gap = s.ObjectiveCents, s.LowerBound, s.Gap
 	r.Status = StatusOK
 	if s.Infeasible > 0 {
 		r.Status = StatusInfeasible

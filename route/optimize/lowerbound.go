@@ -1,0 +1,453 @@
+package optimize
+
+import (
+	"math"
+	"slices"
+)
+
+// The proved lower bound (Solution.LowerBoundCents): a dual ascent on the linear relaxation of
+// the uncapacitated fixed-charge multi-commodity network design problem, after Balakrishnan,
+// Magnanti and Wong, "A dual-ascent procedure for large-scale uncapacitated network design",
+// Operations Research 37(5), 1989.
+//
+// The relaxation keeps, per demand d, its routes as paths from its free end to its anchor
+// that pass no transit-free node, and the linking x_e^d ≤ y_e between its use of edge e and
+// e's opening; it drops reach, duct capacity, edge-group and node disjointness (each only
+// removes plans), prices every edge at the cheapest of d's media that may use it, and counts
+// the cheapest option cost of d. A charge (Problem.Charges) is a fixed charge split evenly over
+// its edges (a route that uses k of its edges is credited k shares, and all users together at
+// most the charge); an edge whose ducts are full (and may get more) has its first added duct
+// and that duct's trench as a fixed charge, when every medium's cable takes duct area; other
+// added ducts are priced at 0. So each edge e has a budget b_e.
+//
+// The dual gives each demand d a price w_e^d ≥ 0 on each edge, with Σ_d w_e^d ≤ b_e; any such
+// prices bound every plan from below by Σ_d (option cost + legs × SP_d(c + w^d)), SP_d the
+// cheapest path of d with edge weights c_e^d + w_e^d: a plan pays each used edge's budget at
+// least once, which covers every w_e^d of the demands that use it (a diverse pair's legs share
+// no edge, so they take each w_e^d at most once).
+//
+// Choosing the prices is the heuristic part. For each demand in turn (dualPasses passes, a
+// demand keeping its prices between passes), repeat: find the cheapest path; raise the price
+// of one of its budgeted edges (fullest budget first, dualProbes tried) by exactly what the
+// cheapest path then gains, so that no budget is spent that does not raise the bound; when no
+// single edge gains (the path has an equally cheap alternative), raise the budgeted edges of
+// every cheapest path together by the least budget left among them, and keep of each only
+// max(0, |π_u − π_v| − c_e), π the new distances from the free end capped at the new level —
+// feasible potentials, so the level is the new cheapest path, and a raise the path did not
+// need goes back to the budget. The work (nodes and edges scanned) is capped; demands the
+// ascent does not reach keep the bound of their cheapest path with every proposed edge free.
+//
+// The bound holds for every plan that routes the same demands and gives each diverse demand
+// at least as many legs as the plan does (the optimizer ranks unrouted demands and missing
+// pairs before cost, so those are the plans it compares).
+
+// dualPasses is the number of passes of the ascent.
+const dualPasses = 2
+
+// dualRaises bounds the prices one demand raises in one pass; dualProbes the edges of one
+// path tried for a raise.
+const (
+	dualRaises = 200
+	dualProbes = 16
+)
+
+// dualWork bounds the nodes and edges the ascent scans, over all passes: both passes on
+// campuses of about 100 buildings, a fixed amount of work beyond (a quarter of it where
+// demands × proposed spans exceed maxDualWork).
+const dualWork = 6_000_000
+
+// dualInf caps distances, far from int64 overflow.
+const dualInf = int64(1) << 61
+
+// dualUse is one price a demand holds: w_e^d on edge edge.
+type dualUse struct {
+	edge  int32
+	cents int64
+}
+
+// dualBound is the result of the ascent.
+type dualBound struct {
+	level  []int64     // demand → level L_d (a leg's lower bound), -1 when the demand has none
+	budget []int64     // edge → budget b_e
+	rem    []int64     // edge → budget left
+	uses   [][]dualUse // demand → prices held
+	onPath [][]int32   // demand → budgeted edges of its cheapest path at its level
+	// wanted lists the proposed edges some demand priced (their budget is partly or wholly
+	// used: the dual says they may pay), fullest first; wantBy the demands that priced each.
+	wanted []int32
+	wantBy map[int32][]int32
+	passes int   // passes completed
+	work   int64 // nodes and edges scanned
+}
+
+// legCost returns c_e^d, the cheapest of demand d's media on edge e (cable and labour cents),
+// or -1 when none may use it.
+func (sv *solver) legCost(d int, e int32) int64 {
+	c := int64(-1)
+	for _, pi := range sv.optProf[d] {
+		if w := sv.profCent[pi][e]; w >= 0 && (c < 0 || w < c) {
+			c = w
+		}
+	}
+	return c
+}
+
+// freeLevel returns the cheapest leg of demand d over its options with every proposed edge
+// free (the plain lower-bound trees), or -1 when no option has a path.
+func (sv *solver) freeLevel(d int) int64 {
+	lv := int64(-1)
+	for o := range sv.p.Demands[d].Options {
+		if t := sv.costTree(sv.to[d], sv.optProf[d][o]).dist[sv.from[d]]; t >= 0 && (lv < 0 || t < lv) {
+			lv = t
+		}
+	}
+	return lv
+}
+
+// ascend computes the dual bound of the problem (nil for the length objective).
+func (sv *solver) ascend() *dualBound {
+	if sv.length {
+		return nil
+	}
+	p := sv.p
+	ne, nd := len(p.Edges), len(p.Demands)
+	db := &dualBound{level: make([]int64, nd), budget: make([]int64, ne), uses: make([][]dualUse, nd), onPath: make([][]int32, nd), wantBy: map[int32][]int32{}}
+	copy(db.budget, sv.fixedE)
+	if sv.chOn {
+		for _, ch := range p.Charges {
+			share := ch.Cents / int64(len(ch.Edges))
+			for _, e := range ch.Edges {
+				db.budget[e] += share
+			}
+		}
+	}
+	// An edge whose ducts are full makes its first cable add a duct, and the trench for it:
+	// a fixed charge on the edge, paid by any plan that uses it. Only when every option's
+	// cable takes duct area (a cable of no diameter needs no duct).
+	sized := true
+	for _, dm := range p.Demands {
+		for _, o := range dm.Options {
+			sized = sized && o.CableODMM > 0
+		}
+	}
+	for e := range p.Edges {
+		if ed := &p.Edges[e]; sized && sv.limited[e] && ed.Ducts == 0 && ed.AddDuctPerMCents > 0 {
+			db.budget[e] += sv.ductCent[e] + sv.trenchCent[e]
+		}
+	}
+	db.rem = slices.Clone(db.budget)
+	free := make([]int64, nd)
+	for d := range db.level {
+		db.level[d] = -1
+		if sv.invalid[d] == "" {
+			free[d] = sv.freeLevel(d)
+			db.level[d] = free[d]
+		}
+	}
+	work := int64(dualWork)
+	if nd*len(sv.proposed) > maxDualWork {
+		work /= 4 // large campuses: the bound is looser, the solve stays fast
+	}
+	ds, dt := newDualSearch(sv.net.nodes, ne), newDualSearch(sv.net.nodes, 0)
+	dt.w = ds.w // the search back from the anchor prices the same w^d
+	var path []int32
+	var raisedBuf []dualUse
+	for pass := 1; pass <= dualPasses; pass++ {
+		for d := 0; d < nd; d++ {
+			if free[d] < 0 || sv.stopped() {
+				continue
+			}
+			if db.work > work {
+				return db.finish(nd)
+			}
+			for _, u := range db.uses[d] {
+				ds.add(u.edge, u.cents)
+			}
+			s, t := int32(sv.from[d]), int32(sv.to[d])
+			top := sv.dualRun(db, ds, d, s, t)
+			for it := 0; top >= 0 && it < dualRaises; it++ {
+				// Raise every budgeted edge of the cheapest path by its whole budget left,
+				// search again, and keep of each raise only what the new distances need
+				// (w_e = max(0, |π_u − π_v| − c_e), π the distances from the free end capped
+				// at the new level): the potentials stay feasible, so the level is the new
+				// cheapest path, and a raise the path did not need goes back to the budget.
+				path = ds.pathTo(sv.net, t, path[:0])
+				// First one edge at a time, fullest budget first: the raise is then exactly
+				// the gain.
+				slices.SortFunc(path, func(a, b int32) int {
+					if db.rem[a] != db.rem[b] {
+						if db.rem[a] > db.rem[b] {
+							return -1
+						}
+						return 1
+					}
+					return int(a - b)
+				})
+				one := false
+				for i, e := range path {
+					r := db.rem[e]
+					if r <= 0 || i >= dualProbes {
+						break
+					}
+					ds.add(e, r)
+					top2 := sv.dualRun(db, ds, d, s, t)
+					ds.w[e] -= r
+					if gain := min(top2-top, r); gain > 0 {
+						ds.add(e, gain)
+						db.rem[e] -= gain
+						one = true
+						break
+					}
+				}
+				if one {
+					top = sv.dualRun(db, ds, d, s, t)
+					continue
+				}
+				// No single edge gains (the path has equally cheap alternatives): raise
+				// together the budgeted edges of every cheapest path (the edges {u, v} with
+				// π_s(u) + c_e + w_e + π_t(v) = top, from a search back from the anchor).
+				sv.dualRun(db, dt, d, t, s)
+				raised := raisedBuf[:0]
+				for _, v := range ds.popped {
+					du := ds.dist[v]
+					for _, ar := range sv.net.adj[sv.net.start[v]:sv.net.start[v+1]] {
+						e := ar.edge
+						r := db.rem[e]
+						if r <= 0 {
+							continue
+						}
+						c := sv.legCost(d, e)
+						if c < 0 {
+							continue
+						}
+						if dv := dt.dist[ar.to]; dv >= 0 && dv < top && du+c+ds.w[e]+dv == top || ar.to == t && du+c+ds.w[e] == top {
+							raised = append(raised, dualUse{e, r})
+						}
+					}
+				}
+				slices.SortFunc(raised, func(a, b dualUse) int { return int(a.edge - b.edge) })
+				raised = slices.CompactFunc(raised, func(a, b dualUse) bool { return a.edge == b.edge })
+				// By the same amount each, the least budget left among them: a cut raised
+				// evenly.
+				step := int64(math.MaxInt64)
+				for _, u := range raised {
+					step = min(step, u.cents)
+				}
+				for i := range raised {
+					raised[i].cents = step
+					ds.add(raised[i].edge, step)
+				}
+				raisedBuf = raised
+				if len(raised) == 0 {
+					break
+				}
+				top2 := sv.dualRun(db, ds, d, s, t)
+				if top2 <= top {
+					for _, u := range raised {
+						ds.w[u.edge] -= u.cents
+					}
+					break
+				}
+				pot := func(v int) int64 {
+					if dv := ds.dist[v]; dv >= 0 && dv < top2 {
+						return dv
+					}
+					return top2
+				}
+				for _, u := range raised {
+					ed := &p.Edges[u.edge]
+					need := max(0, abs64(pot(ed.From)-pot(ed.To))-sv.legCost(d, u.edge))
+					db.rem[u.edge] -= need - (ds.w[u.edge] - u.cents)
+					ds.w[u.edge] = need
+				}
+				top = sv.dualRun(db, ds, d, s, t)
+			}
+			// The budgeted edges of d's cheapest path at its level: d wants them, priced or not
+			// (another demand may have spent their budget).
+			if top >= 0 && sv.dualRun(db, ds, d, s, t) >= 0 {
+				db.onPath[d] = db.onPath[d][:0]
+				for _, e := range ds.pathTo(sv.net, t, path[:0]) {
+					if db.budget[e] > 0 {
+						db.onPath[d] = append(db.onPath[d], e)
+					}
+				}
+			}
+			// Record d's prices (the edges priced above zero).
+			uses := db.uses[d][:0]
+			for _, e := range ds.wl {
+				if ds.w[e] > 0 {
+					uses = append(uses, dualUse{e, ds.w[e]})
+				}
+				ds.w[e], ds.wOn[e] = 0, false
+			}
+			ds.wl = ds.wl[:0]
+			db.uses[d] = uses
+			if top > db.level[d] {
+				db.level[d] = top
+			}
+		}
+		db.passes = pass
+	}
+	return db.finish(nd)
+}
+
+// finish lists the wanted edges.
+func (db *dualBound) finish(nd int) *dualBound {
+	for d := 0; d < nd; d++ {
+		for _, u := range db.uses[d] {
+			if db.budget[u.edge] > 0 {
+				db.wantBy[u.edge] = append(db.wantBy[u.edge], int32(d))
+			}
+		}
+		for _, e := range db.onPath[d] {
+			db.wantBy[e] = append(db.wantBy[e], int32(d))
+		}
+	}
+	for e, ds := range db.wantBy {
+		db.wanted = append(db.wanted, e)
+		slices.Sort(ds)
+		db.wantBy[e] = slices.Compact(ds)
+	}
+	slices.SortFunc(db.wanted, func(a, b int32) int {
+		ra, rb := db.rem[a]*1000/max(db.budget[a], 1), db.rem[b]*1000/max(db.budget[b], 1)
+		if ra != rb {
+			if ra < rb {
+				return -1
+			}
+			return 1
+		}
+		return int(a - b)
+	})
+	return db
+}
+
+// planBound returns the lower bound for the current plan's routed demands and legs (see the
+// file comment), or -1 without a bound.
+func (sv *solver) planBound() int64 {
+	db := sv.dual
+	if db == nil {
+		return -1
+	}
+	var b int64
+	for d, c := range sv.st.ch {
+		if c.opt < 0 || db.level[d] < 0 {
+			continue
+		}
+		legs := max(len(c.legs), 1)
+		fx := int64(math.MaxInt64)
+		for o := range sv.p.Demands[d].Options {
+			fx = min(fx, sv.optionCents(d, o, legs))
+		}
+		b += fx + int64(legs)*db.level[d]
+	}
+	return b
+}
+
+// gapClosed reports whether the plan is proved optimal: every demand routed with its pair,
+// nothing overfull, and its cost within 1e-9 of the bound.
+func (sv *solver) gapClosed() bool {
+	if sv.dual == nil {
+		return false
+	}
+	k := sv.st.key()
+	if k.overfull != 0 || k.unrouted != 0 || k.unmet != 0 {
+		return false
+	}
+	b := sv.planBound()
+	return b > 0 && float64(k.total-b) <= 1e-9*float64(b)
+}
+
+// dualSearch is the scratch of the ascent's searches: distances, the edge each node was
+// reached by, and the prices w^d of the demand being raised (wl lists the edges of w
+// touched, so that they can be cleared).
+type dualSearch struct {
+	dist            []int64 // -1 when not reached
+	pred            []int32 // edge a node was reached by, -1 for the root
+	popped, touched []int32
+	h               minHeap[int64]
+	w               []int64
+	wl              []int32
+	wOn             []bool
+}
+
+func newDualSearch(nodes, edges int) *dualSearch {
+	ds := &dualSearch{dist: make([]int64, nodes), pred: make([]int32, nodes), w: make([]int64, edges), wOn: make([]bool, edges)}
+	for i := range ds.dist {
+		ds.dist[i] = -1
+	}
+	return ds
+}
+
+func abs64(x int64) int64 {
+	if x < 0 {
+		return -x
+	}
+	return x
+}
+
+// add raises the price of edge e by x.
+func (ds *dualSearch) add(e int32, x int64) {
+	if !ds.wOn[e] {
+		ds.wOn[e] = true
+		ds.wl = append(ds.wl, e)
+	}
+	ds.w[e] += x
+}
+
+// pathTo appends to buf the edges of the search's path from its root to v.
+func (ds *dualSearch) pathTo(n *Network, v int32, buf []int32) []int32 {
+	for ds.pred[v] >= 0 {
+		e := ds.pred[v]
+		buf = append(buf, e)
+		if ed := &n.edges[e]; int32(ed.From) == v {
+			v = int32(ed.To)
+		} else {
+			v = int32(ed.From)
+		}
+	}
+	return buf
+}
+
+// dualRun runs Dijkstra from root over demand d's edges weighted c_e^d + w_e^d (ds.w),
+// passing no transit-free node but the root, until it pops goal; it returns goal's distance,
+// or -1 when goal cannot be reached.
+func (sv *solver) dualRun(db *dualBound, ds *dualSearch, d int, root, goal int32) int64 {
+	n := sv.net
+	for _, v := range ds.touched {
+		ds.dist[v] = -1
+	}
+	ds.popped, ds.touched = ds.popped[:0], append(ds.touched[:0], root)
+	ds.h.reset()
+	ds.dist[root], ds.pred[root] = 0, -1
+	ds.h.push(0, root)
+	for ds.h.len() > 0 {
+		k, v := ds.h.pop()
+		if k > ds.dist[v] {
+			continue
+		}
+		if v == goal {
+			return k
+		}
+		ds.popped = append(ds.popped, v)
+		db.work++
+		if !n.transit(v, int(root)) {
+			continue
+		}
+		for _, a := range n.adj[n.start[v]:n.start[v+1]] {
+			db.work++
+			c := sv.legCost(d, a.edge)
+			if c < 0 {
+				continue
+			}
+			nk := min(k+c+ds.w[a.edge], dualInf)
+			if dv := ds.dist[a.to]; dv < 0 || nk < dv {
+				if dv < 0 {
+					ds.touched = append(ds.touched, a.to)
+				}
+				ds.dist[a.to], ds.pred[a.to] = nk, a.edge
+				ds.h.push(nk, a.to)
+			}
+		}
+	}
+	return -1
+}

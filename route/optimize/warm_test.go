@@ -1,0 +1,70 @@
+package optimize
+
+import (
+	"fmt"
+	"testing"
+)
+
+// repriced returns p with its trench and cable prices scaled (a price-book scenario of the
+// same campus: same network and demands, other prices).
+func repriced(p *Problem, trench, cable float64) *Problem {
+	q := clone(p)
+	for i := range q.Edges {
+		q.Edges[i].FixedCents = int64(float64(q.Edges[i].FixedCents) * trench)
+	}
+	for d := range q.Demands {
+		for o := range q.Demands[d].Options {
+			q.Demands[d].Options[o].CablePerMCents = int64(float64(q.Demands[d].Options[o].CablePerMCents) * cable)
+		}
+	}
+	return q
+}
+
+// TestWarmStart solves price scenarios of one campus from the base scenario's plan: each plan
+// is valid (verify), never costs more than the start it was given priced in the scenario,
+// and is the same on a second solve; start routes that do not fit (another demand ID, an edge
+// out of range, a leg that does not reach the anchor) are ignored.
+func TestWarmStart(t *testing.T) {
+	t.Parallel()
+	base := campus(campusSpec{buildings: 40, seed: 31, diverseFrac: 0.1, options: 3, capacity: true, proposedPct: 15})
+	bs, err := Solve(base, Settings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	start := StartFrom(bs)
+	for _, sc := range []struct{ trench, cable float64 }{{1, 1}, {0.3, 1}, {3, 1}, {1, 4}} {
+		name := fmt.Sprintf("trench×%.1f cable×%.1f", sc.trench, sc.cable)
+		p := repriced(base, sc.trench, sc.cable)
+		warm, err := Solve(p, Settings{Start: start})
+		if err != nil {
+			t.Fatal(err)
+		}
+		verify(t, name, p, warm)
+		again, _ := Solve(p, Settings{Start: start})
+		if again.TotalCents != warm.TotalCents || fmt.Sprint(again.Opened) != fmt.Sprint(warm.Opened) {
+			t.Errorf("%s: a second warm solve differs: %d against %d cents", name, again.TotalCents, warm.TotalCents)
+		}
+		cold, _ := Solve(p, Settings{})
+		t.Logf("%s: warm %d cents (bound %d), cold %d cents", name, warm.TotalCents, warm.LowerBoundCents, cold.TotalCents)
+		if warm.LowerBoundCents > warm.TotalCents || warm.LowerBoundCents != cold.LowerBoundCents {
+			t.Errorf("%s: bound %d warm, %d cold: the bound must not depend on the start", name, warm.LowerBoundCents, cold.LowerBoundCents)
+		}
+	}
+	// Same prices, own plan as the start: the search cannot end above it.
+	own, _ := Solve(base, Settings{Start: start})
+	if own.TotalCents > bs.TotalCents {
+		t.Errorf("started from its own plan: %d cents, above the plan's %d", own.TotalCents, bs.TotalCents)
+	}
+	// Broken starts are ignored, demand by demand.
+	bad := append([]StartRoute(nil), start...)
+	bad[0].ID += "x"
+	bad[1].Legs = [][]Hop{{{Edge: len(base.Edges) + 5, Forward: true}}}
+	if len(bad[2].Legs) > 0 {
+		bad[2].Legs = [][]Hop{bad[2].Legs[0][:len(bad[2].Legs[0])-1]}
+	}
+	got, err := Solve(base, Settings{Start: bad})
+	if err != nil {
+		t.Fatal(err)
+	}
+	verify(t, "broken start", base, got)
+}
