@@ -25,20 +25,26 @@ func benchCampus(n int) *Problem {
 	return benchCampuses[n]
 }
 
+// benchSolve solves p b.N times with the default settings and returns the last solution.
+func benchSolve(b *testing.B, p *Problem) *Solution {
+	b.ReportAllocs()
+	b.ResetTimer()
+	var sol *Solution
+	for i := 0; i < b.N; i++ {
+		var err error
+		if sol, err = Solve(p, Settings{}); err != nil {
+			b.Fatal(err)
+		}
+	}
+	return sol
+}
+
 // BenchmarkSolve solves synthetic campuses of 100, 1,000 and 5,000 buildings.
 func BenchmarkSolve(b *testing.B) {
 	for _, n := range benchSizes {
 		b.Run(fmt.Sprintf("buildings_%d", n), func(b *testing.B) {
 			p := benchCampus(n)
-			b.ReportAllocs()
-			b.ResetTimer()
-			var sol *Solution
-			for i := 0; i < b.N; i++ {
-				var err error
-				if sol, err = Solve(p, Settings{}); err != nil {
-					b.Fatal(err)
-				}
-			}
+			sol := benchSolve(b, p)
 			b.ReportMetric(float64(len(p.Edges)), "edges")
 			b.ReportMetric(float64(len(sol.Infeasible)), "infeasible")
 			b.ReportMetric(float64(sol.Rounds), "rounds")
@@ -76,15 +82,7 @@ func BenchmarkSolveTransitCharges(b *testing.B) {
 				p = &bare
 			}
 			b.Run(name, func(b *testing.B) {
-				b.ReportAllocs()
-				b.ResetTimer()
-				var sol *Solution
-				for i := 0; i < b.N; i++ {
-					var err error
-					if sol, err = Solve(p, Settings{}); err != nil {
-						b.Fatal(err)
-					}
-				}
+				sol := benchSolve(b, p)
 				b.ReportMetric(float64(len(sol.Charged)), "paid")
 				b.ReportMetric(float64(len(sol.Infeasible)), "infeasible")
 				b.ReportMetric(float64(sol.Rounds), "rounds")

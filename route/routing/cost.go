@@ -183,7 +183,7 @@ func NewModel(eng *media.Engine, d plan.Design) (*Model, error) {
 
 // problem builds the optimizer's problem: one edge per span (same index), one demand per link;
 // and the site's graph it is drawn on (layoutOf).
-func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, *layout, []demandInfo, error) {
+func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*optimize.Problem, *layout, []demandInfo, error) {
 	net := s.Net
 	lay := layoutOf(s)
 	p := &optimize.Problem{Nodes: lay.nodes, AllowNew: m.design.AllowNewTrench,
@@ -192,10 +192,10 @@ func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, *lay
 		p.NoTransit = lay.noTransit
 	}
 	d := m.design
-	// Handholes along runs of new construction, by span: each is paid with its span, and a
-	// run is opened whole (site.NewRun).
+	// Handholes along runs of new construction (runsOf), by span: each is paid with its span,
+	// and a run is opened whole (site.NewRun).
 	runHH := map[string]int{}
-	for _, r := range s.NewRuns(d.HandholeSpacingM, d.PullBendDeg) {
+	for _, r := range runs {
 		for _, h := range r.Handholes {
 			runHH[r.Steps[h.Step].SpanID]++
 		}
@@ -205,18 +205,6 @@ func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, *lay
 			return nil, nil, nil, err
 		}
 	}
-	// Crew labour a cable takes at a junction, as a share of it (items.AtJunctions).
-	halves := func(js ...string) (pull, entered float64) {
-		for _, j := range js {
-			if items.PullPoint(s, j) {
-				pull += 0.5
-			}
-			if items.Entered(s, j) {
-				entered += 0.5
-			}
-		}
-		return pull, entered
-	}
 	// Duct fill: the optimizer's incremental NFPA 70 Chapter 9 Table 1 packing (nil Fits).
 	for i := range net.Spans {
 		sp := &net.Spans[i]
@@ -225,7 +213,7 @@ func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, *lay
 		// structure crosses two of its spans; the halves at a route's two ends are its
 		// demand's (demand).
 		loops := (items.LoopM(s, d, sp.From) + items.LoopM(s, d, sp.To)) / 2
-		pull, entered := halves(sp.From, sp.To)
+		pull, entered := crewHalves(s, sp.From, sp.To)
 		hh := float64(runHH[sp.ID]) + items.JoinEnds(s, sp)
 		e := optimize.Edge{ID: sp.ID, From: int(u), To: int(v), LengthM: sp.LengthM, CableM: items.Wasted(d, sp.LengthM+loops),
 			PerCableCents: m.cents(items.AlongSpan(d, sp.Type, sp.LengthM)...) + m.cents(items.StructureLoops(loops)...) +
@@ -272,7 +260,7 @@ func problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, *lay
 				e.CableM += items.Wasted(d, loop)
 				e.PerCableCents += m.cents(items.StructureLoops(loop)...)
 			}
-			pull, entered := halves(x.junction)
+			pull, entered := crewHalves(s, x.junction)
 			e.PerCableCents += m.cents(items.AtJunctions(m.prices, pull, entered)...) + m.bidPer(media.BidBases{Structures: 1}, entered)
 		case edgeTurn:
 			// The handhole added where the route turns: a pull point the crew enters.
@@ -346,15 +334,7 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link) (optimize.Demand,
 	endItems := append(items.LegEnds(riser, coils, lateral), items.StructureLoops(endLoops)...)
 	// The crew: one pull set-up more than the pull points the route passes, the halves at its
 	// ends its spans leave out, and both cable ends prepared.
-	pull, entered := 0.0, 0.0
-	for _, j := range []string{src.Junction, dst.Junction} {
-		if j != "" && items.PullPoint(s, j) {
-			pull += 0.5
-		}
-		if j != "" && items.Entered(s, j) {
-			entered += 0.5
-		}
-	}
+	pull, entered := crewHalves(s, src.Junction, dst.Junction) // "" at an end with several entrances: none
 	endItems = append(endItems, items.AtJunctions(m.prices, 1+pull, entered)...)
 	endItems = append(endItems, items.Crew(m.prices, media.CrewCableEndPrep, 2)...)
 	endItems = append(endItems, items.BidPer(m.prices, media.BidBases{CableEnds: 2, Legs: 1})...)
@@ -465,6 +445,27 @@ func cableOD(m *media.Medium, strands, copperCables int) float64 {
 		return size.ODMM
 	}
 	return 0
+}
+
+// runsOf is the site's runs of new construction with the handholes the design places along
+// them (site.NewRuns).
+func (m *Model) runsOf(s *site.Site) []site.NewRun {
+	return s.NewRuns(m.design.HandholeSpacingM, m.design.PullBendDeg)
+}
+
+// crewHalves is the share of the crew's work one cable takes at junctions js (items.AtJunctions):
+// half a pull point and half an entry at each that is one, so that a route passing a junction
+// pays one whole over the two spans it takes there.
+func crewHalves(s *site.Site, js ...string) (pull, entered float64) {
+	for _, j := range js {
+		if items.PullPoint(s, j) {
+			pull += 0.5
+		}
+		if items.Entered(s, j) {
+			entered += 0.5
+		}
+	}
+	return pull, entered
 }
 
 // bidPer prices the bid items per unit of the basis set to 1 in bases (items.BidPer), for

@@ -51,7 +51,7 @@ func excluded(t *testing.T, rules *media.Rules) map[string]bool {
 	if err != nil {
 		t.Fatal(err)
 	}
-	prob, lay, _, err := problem(s, cm, links)
+	prob, lay, _, err := problem(s, cm, links, cm.runsOf(s))
 	if err != nil {
 		t.Fatal(err)
 	}

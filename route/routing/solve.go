@@ -59,7 +59,8 @@ type Handhole struct {
 // the others; it carries its reason. When ctx is done, the optimizer and the media choice stop
 // within a step and Solve returns ctx's error.
 func Solve(ctx context.Context, s *site.Site, m *Model, links []site.Link) (*Routed, error) {
-	prob, lay, infos, err := problem(s, m, links)
+	runs := m.runsOf(s)
+	prob, lay, infos, err := problem(s, m, links, runs)
 	if err != nil {
 		return nil, err
 	}
@@ -85,7 +86,7 @@ func Solve(ctx context.Context, s *site.Site, m *Model, links []site.Link) (*Rou
 		joins := slices.ContainsFunc(sol.Opened, func(e int) bool { return slices.Contains(c.edges, e) })
 		r.Handholes = append(r.Handholes, Handhole{Junction: c.junction, Joins: joins})
 	}
-	for _, run := range s.NewRuns(m.design.HandholeSpacingM, m.design.PullBendDeg) {
+	for _, run := range runs {
 		if slices.Contains(r.Opened, run.Steps[0].SpanID) {
 			r.Runs = append(r.Runs, run)
 		}
@@ -150,6 +151,6 @@ func entrancesUsed(lay *layout, legs []Leg) []EntranceUse {
 // site's network (same index), one demand per link, every price from the model. It is what
 // the optimizer's objective is computed on, for checks against the bill.
 func Problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, error) {
-	prob, _, _, err := problem(s, m, links)
+	prob, _, _, err := problem(s, m, links, m.runsOf(s))
 	return prob, err
 }
