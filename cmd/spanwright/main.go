@@ -32,6 +32,7 @@ func main() {
 	if err != nil {
 		fmt.Fprintf(escape.NewTerminal(os.Stderr), "spanwright: %v\n", err)
 	}
+	stopProfile()
 	code := exitCode(err)
 	if s, ok := got.Load().(syscall.Signal); ok && err != nil && errors.Is(err, context.Canceled) {
 		code = 128 + int(s) // the shell's convention: 130 for Ctrl-C, 143 for SIGTERM

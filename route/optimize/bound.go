@@ -8,8 +8,14 @@ package optimize
 // opened nor phantom when it was built. It stays a lower bound of the searches' weights as long
 // as no edge charged in it has become free since (an edge that closed only makes it looser),
 // which the solver tracks with two counters per tree as edges open, close and turn phantom;
-// a tree is rebuilt when it would no longer bound (and not while a move holds phantom edges,
-// when the plain tree serves), and when it has become loose, once per local search round.
+// a tree is brought up to date when it would no longer bound (and not while a move holds
+// phantom edges, when the plain tree serves), and rebuilt when it has become loose, once per
+// local search round.
+//
+// Bringing a tree up to date does not rebuild it: the edges that became free since are
+// lowered to their base weight in place (freeUp), and only the nodes whose distance falls are
+// searched again. The tree is then exactly the shortest-path tree of its new weights, as a
+// rebuild would give, save for which of two equal paths a node keeps.
 
 // planTree is a lower-bound tree over the current plan; see the file comment.
 type planTree struct {
@@ -18,8 +24,11 @@ type planTree struct {
 	hash   uint64 // solver.freeHash when built
 	// kept holds trees built earlier for other sets of free edges, most recent last: a local
 	// search that tries a move and reverts it returns to a set it has seen.
-	kept   []keptTree
-	bad    int // proposed edges free now but charged in the tree
+	kept []keptTree
+	bad  int // proposed edges free now but charged in the tree
+	// pend lists (as indices into solver.proposed) the edges that became free while charged
+	// in the tree, since it was last brought up to date: a superset of the bad ones.
+	pend   []int32
 	loose  int // proposed edges free in the tree but charged now
 	round  int // solver.roundNo when built
 	anchor int
@@ -63,6 +72,7 @@ func (sv *solver) freeChanged(e int32, free bool) {
 		switch {
 		case free && !pt.freeAt[pi]:
 			pt.bad++
+			pt.pend = append(pt.pend, pi)
 		case free:
 			pt.loose--
 		case !pt.freeAt[pi]:
@@ -117,10 +127,12 @@ func (sv *solver) recount() {
 	}
 	for _, pt := range sv.planList {
 		pt.bad, pt.loose = 0, 0
+		pt.pend = pt.pend[:0]
 		for pi, e := range sv.proposed {
 			switch f := sv.freeNow(e); {
 			case f && !pt.freeAt[pi]:
 				pt.bad++
+				pt.pend = append(pt.pend, int32(pi))
 			case !f && pt.freeAt[pi]:
 				pt.loose++
 			}
@@ -139,10 +151,15 @@ func (sv *solver) bound(anchor, prof int) bounder {
 	k := sv.slot(anchor)*len(sv.profiles) + prof
 	pt := sv.planTrees[k]
 	if pt != nil && pt.bad == 0 && (pt.loose == 0 || pt.round == sv.roundNo || sv.nPhantom > 0) {
+		pt.pend = pt.pend[:0] // none of them is both free now and charged in the tree
 		return bounder{t: pt.t, pt: pt}
 	}
 	if sv.nPhantom > 0 {
 		return bounder{t: sv.costTree(anchor, prof)}
+	}
+	if pt != nil && pt.bad > 0 && (pt.loose == 0 || pt.round == sv.roundNo) {
+		sv.freeUp(pt)
+		return bounder{t: pt.t, pt: pt}
 	}
 	if pt == nil {
 		pt = &planTree{freeAt: make([]bool, len(sv.proposed)), anchor: anchor, prof: prof}
@@ -150,6 +167,7 @@ func (sv *solver) bound(anchor, prof int) bounder {
 		sv.planList = append(sv.planList, pt)
 	}
 	pt.bad, pt.loose, pt.round = 0, 0, sv.roundNo
+	pt.pend = pt.pend[:0]
 	if pt.t != nil && sv.keepTrees > 0 {
 		// Keep the current tree; reuse one kept for the current free set if there is one.
 		for i := range pt.kept {
@@ -190,4 +208,67 @@ func (sv *solver) bound(anchor, prof int) bounder {
 		return b, true
 	})
 	return bounder{t: pt.t, pt: pt}
+}
+
+// freeUp brings plan tree pt up to date with the edges that became free since it was built:
+// each pending edge free now is lowered to its base weight, and the nodes whose distance to
+// the root falls are searched again from there (Dijkstra over the improved region only), which
+// leaves the exact shortest-path tree of the new weights.
+func (sv *solver) freeUp(pt *planTree) {
+	t, net, root := pt.t, sv.net, pt.anchor
+	base := sv.profBase[pt.prof]
+	w := func(e int32) (int64, bool) {
+		b := base[e]
+		if b < 0 {
+			return 0, false
+		}
+		if pi := sv.propIdx[e]; pi >= 0 && !pt.freeAt[pi] {
+			b += sv.fixedE[e]
+		}
+		return b, true
+	}
+	h := &sv.upHeap
+	h.reset()
+	// relax offers v the path through u by edge e.
+	relax := func(u, v, e int32) {
+		du := t.dist[u]
+		if du < 0 || !net.transit(u, root) {
+			return
+		}
+		we, ok := w(e)
+		if !ok {
+			return
+		}
+		if nd := du + we; t.dist[v] < 0 || nd < t.dist[v] {
+			t.dist[v], t.lenMM[v], t.pred[v] = nd, t.lenMM[u]+net.lenMM[e], e
+			h.push(nd, v)
+		}
+	}
+	for _, pi := range pt.pend {
+		e := sv.proposed[pi]
+		if pt.freeAt[pi] || !sv.freeNow(e) {
+			continue
+		}
+		pt.freeAt[pi] = true
+		pt.hash ^= mix(uint64(e), 17)
+		ed := &sv.p.Edges[e]
+		a, b := int32(ed.From), int32(ed.To)
+		relax(a, b, e)
+		relax(b, a, e)
+	}
+	pt.pend = pt.pend[:0]
+	pt.bad = 0
+	sv.freeUps++
+	for h.len() > 0 {
+		d, u := h.pop()
+		if d != t.dist[u] {
+			continue // stale: u was lowered again after this entry
+		}
+		if !net.transit(u, root) {
+			continue
+		}
+		for _, a := range net.adj[net.start[u]:net.start[u+1]] {
+			relax(u, a.to, a.edge)
+		}
+	}
 }

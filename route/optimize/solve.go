@@ -106,10 +106,12 @@ type solver struct {
 	groups     map[int][]int32
 	proposed   []int32
 
-	costTrees   []*tree     // slot × profiles + profile, see slot
-	planTrees   []*planTree // slot × profiles + profile
-	planList    []*planTree // planTrees in creation order
-	anchorSlot  []int32     // node → slot of the trees rooted there, -1 when none yet
+	costTrees   []*tree        // slot × profiles + profile, see slot
+	planTrees   []*planTree    // slot × profiles + profile
+	planList    []*planTree    // planTrees in creation order
+	upHeap      minHeap[int64] // freeUp's scratch
+	freeUps     int            // plan trees brought up to date in place (for the tests)
+	anchorSlot  []int32        // node → slot of the trees rooted there, -1 when none yet
 	nSlots      int
 	profLen     []int   // profile → exclusion class
 	propIdx     []int32 // edge → index into proposed, -1 for other edges
