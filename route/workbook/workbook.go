@@ -257,6 +257,13 @@ func (w *Workbook) WriteTo(out io.Writer) (int64, error) {
 	return w.writeTo(context.Background(), out)
 }
 
+// WriteToContext is WriteTo that gives up when ctx is done, returning ctx's error, as
+// BytesContext does; out may then hold part of a file.
+func (w *Workbook) WriteToContext(ctx context.Context, out io.Writer) error {
+	_, err := w.writeTo(ctx, out)
+	return err
+}
+
 func (w *Workbook) writeTo(ctx context.Context, out io.Writer) (int64, error) {
 	f, err := w.build(ctx)
 	if err != nil {
