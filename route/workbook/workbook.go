@@ -6,6 +6,8 @@ import (
 	"compress/flate"
 	"context"
 	"fmt"
+	"hash"
+	"hash/crc32"
 	"io"
 	"io/fs"
 	"math"
@@ -479,21 +481,58 @@ func (b *builder) value(c Cell) (any, error) {
 
 // sortedZip collects the parts excelize writes and stores them in name order when closed:
 // excelize writes streamed sheets in map order, which would change the bytes from run to run.
-// Once ctx is done, every write and the close fail with its error.
+// Each part is compressed as it is written (a sheet's XML is about ten times its deflated
+// size, and a large workbook's sheets are hundreds of megabytes of it) and the compressed
+// parts are stored as they are (zip.Writer.CreateRaw), with the headers CreateHeader would
+// write, so the file is the same bytes as compressing them at the close. Once ctx is done,
+// every write and the close fail with its error.
 type sortedZip struct {
 	ctx   context.Context
 	w     io.Writer
-	parts map[string]*bytes.Buffer
+	parts map[string]*zipPart
+	open  *zipPart // the part being written: excelize writes one part at a time, as zip.Writer wants
+}
+
+// zipPart is one part, deflated as it is written.
+type zipPart struct {
+	data bytes.Buffer // deflated
+	crc  hash.Hash32  // of the part as written
+	size uint64       // bytes written
+	comp io.WriteCloser
+}
+
+func (p *zipPart) Write(b []byte) (int, error) {
+	p.crc.Write(b)
+	p.size += uint64(len(b))
+	return p.comp.Write(b)
 }
 
 func newSortedZip(ctx context.Context, w io.Writer) excelize.ZipWriter {
-	return &sortedZip{ctx: ctx, w: w, parts: map[string]*bytes.Buffer{}}
+	return &sortedZip{ctx: ctx, w: w, parts: map[string]*zipPart{}}
 }
 
 func (z *sortedZip) Create(name string) (io.Writer, error) {
-	b := &bytes.Buffer{}
-	z.parts[name] = b
-	return ctxio.Writer(z.ctx, b), nil
+	if err := z.closePart(); err != nil {
+		return nil, err
+	}
+	p := &zipPart{crc: crc32.NewIEEE()}
+	comp, err := fastDeflate(&p.data)
+	if err != nil {
+		return nil, err
+	}
+	p.comp = comp
+	z.parts[name], z.open = p, p
+	return ctxio.Writer(z.ctx, p), nil
+}
+
+// closePart ends the compression of the part being written.
+func (z *sortedZip) closePart() error {
+	if z.open == nil {
+		return nil
+	}
+	p := z.open
+	z.open = nil
+	return p.comp.Close()
 }
 
 func (z *sortedZip) AddFS(fs.FS) error {
@@ -501,36 +540,39 @@ func (z *sortedZip) AddFS(fs.FS) error {
 }
 
 func (z *sortedZip) Close() error {
+	if err := z.closePart(); err != nil {
+		return err
+	}
 	names := make([]string, 0, len(z.parts))
 	for n := range z.parts {
 		names = append(names, n)
 	}
 	sort.Strings(names)
 	zw := zip.NewWriter(z.w)
-	zw.RegisterCompressor(zip.Deflate, fastDeflate)
 	for _, n := range names {
-		fw, err := zw.CreateHeader(&zip.FileHeader{Name: n, Method: zip.Deflate})
+		if err := z.ctx.Err(); err != nil {
+			return err
+		}
+		p := z.parts[n]
+		// The header zip.Writer.CreateHeader gives a part it compresses: version 2.0, sizes
+		// and checksum in a data descriptor after the data (APPNOTE.TXT 4.3.9), no time.
+		fw, err := zw.CreateRaw(&zip.FileHeader{Name: n, Method: zip.Deflate, Flags: 0x8,
+			CreatorVersion: zipVersion20, ReaderVersion: zipVersion20,
+			CRC32: p.crc.Sum32(), CompressedSize64: uint64(p.data.Len()), UncompressedSize64: p.size})
 		if err != nil {
 			return err
 		}
-		// In pieces, so that a stop ends a large sheet's compression soon; deflate's output
-		// does not depend on how its input is split into writes.
-		w := ctxio.Writer(z.ctx, fw)
-		for data := z.parts[n].Bytes(); ; data = data[partPiece:] {
-			if _, err := w.Write(data[:min(len(data), partPiece)]); err != nil {
-				return err
-			}
-			if len(data) <= partPiece {
-				break
-			}
+		if _, err := fw.Write(p.data.Bytes()); err != nil {
+			return err
 		}
+		delete(z.parts, n) // written: let it go
 	}
 	return zw.Close()
 }
 
-// partPiece is how many bytes of a part sortedZip compresses between two looks at the
-// context: a few milliseconds of deflate.
-const partPiece = 1 << 18
+// zipVersion20 is the zip format version 2.0 (deflate), as archive/zip writes it
+// (PKWARE APPNOTE.TXT 4.4.3).
+const zipVersion20 = 20
 
 // flateWriters are reused: a compressor holds about a megabyte of state.
 var flateWriters = sync.Pool{New: func() any {
