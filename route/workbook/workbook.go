@@ -267,25 +267,42 @@ func (w *Workbook) WriteToContext(ctx context.Context, out io.Writer) error {
 }
 
 func (w *Workbook) writeTo(ctx context.Context, out io.Writer) (int64, error) {
-	f, err := w.build(ctx)
+	// excelize's WriteTo packs the file into a buffer of its own and then copies it to out;
+	// the zip writer it is given (sortedZip) writes to out itself instead, so the packed file
+	// is never held whole, and excelize's buffer stays empty.
+	cw := &countWriter{w: ctxio.Writer(ctx, out)}
+	f, err := w.build(ctx, cw)
 	if err != nil {
 		return 0, err
 	}
 	defer f.Close()
-	n, err := f.WriteTo(ctxio.Writer(ctx, out))
+	_, err = f.WriteTo(cw)
 	if err := ctx.Err(); err != nil {
-		return n, err
+		return cw.n, err
 	}
 	if err != nil {
-		return n, fmt.Errorf("workbook: write: %w", err)
+		return cw.n, fmt.Errorf("workbook: write: %w", err)
 	}
-	return n, nil
+	return cw.n, nil
+}
+
+// countWriter counts the bytes written through it.
+type countWriter struct {
+	w io.Writer
+	n int64
+}
+
+func (c *countWriter) Write(p []byte) (int, error) {
+	n, err := c.w.Write(p)
+	c.n += int64(n)
+	return n, err
 }
 
 // rowCheckEvery is how many rows a sheet renders between two looks at the context.
 const rowCheckEvery = 256
 
-func (w *Workbook) build(ctx context.Context) (*excelize.File, error) {
+// build lays out the workbook; its zip writer writes the packed file to out.
+func (w *Workbook) build(ctx context.Context, out io.Writer) (*excelize.File, error) {
 	if len(w.sheets) == 0 {
 		return nil, fmt.Errorf("workbook: no sheets")
 	}
@@ -301,7 +318,7 @@ func (w *Workbook) build(ctx context.Context) (*excelize.File, error) {
 		seen[key] = true
 	}
 	f := excelize.NewFile()
-	f.SetZipWriter(func(w io.Writer) excelize.ZipWriter { return newSortedZip(ctx, w) })
+	f.SetZipWriter(func(io.Writer) excelize.ZipWriter { return newSortedZip(ctx, out) })
 	b := &builder{ctx: ctx, f: f, styles: map[styleKey]int{}}
 	for i, s := range w.sheets {
 		err := ctx.Err()
