@@ -5,6 +5,7 @@ import (
 	"bytes"
 	"compress/flate"
 	"context"
+	"encoding/binary"
 	"fmt"
 	"hash"
 	"hash/crc32"
@@ -163,7 +164,11 @@ type Sheet struct {
 	Columns []Column
 	// Filter, when true, adds filter buttons to the header row.
 	Filter bool
-	rows   [][]Cell
+	// The rows appended, packed (appendCell) one after the other: a large workbook holds
+	// hundreds of thousands of cells, and a Cell is 64 bytes before its text.
+	rows   []byte
+	nrows  int
+	widest []int // per column, the widest cell appended, in characters as shown
 }
 
 // Append adds a row; a row shorter than the columns ends with blank cells. It panics if the
@@ -172,17 +177,105 @@ func (s *Sheet) Append(cells ...Cell) {
 	if len(cells) > len(s.Columns) {
 		panic(fmt.Sprintf("workbook: sheet %q: row of %d cells, sheet has %d columns", s.Name, len(cells), len(s.Columns)))
 	}
-	s.rows = append(s.rows, append([]Cell(nil), cells...))
+	if len(s.widest) < len(s.Columns) {
+		s.widest = append(s.widest, make([]int, len(s.Columns)-len(s.widest))...)
+	}
+	s.rows = binary.AppendUvarint(s.rows, uint64(len(cells)))
+	for c, cell := range cells {
+		s.rows = appendCell(s.rows, cell)
+		s.widest[c] = max(s.widest[c], utf8.RuneCountInString(cell.display()))
+	}
+	s.nrows++
 }
 
 // Rows returns the number of rows appended, the header not counted.
-func (s *Sheet) Rows() int { return len(s.rows) }
+func (s *Sheet) Rows() int { return s.nrows }
+
+// eachRow calls f with every row appended, in order, as long as f returns nil; the row's
+// slice is reused from one call to the next.
+func (s *Sheet) eachRow(f func(r int, row []Cell) error) error {
+	var row []Cell
+	data := s.rows
+	for r := 0; r < s.nrows; r++ {
+		n, k := binary.Uvarint(data)
+		data = data[k:]
+		row = row[:0]
+		for range n {
+			var c Cell
+			c, data = readCell(data)
+			row = append(row, c)
+		}
+		if err := f(r, row); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// appendCell packs c onto b: its kind, then what the kind needs (text and cached text
+// length-prefixed, numbers as their IEEE 754 bits, decimals shifted by one to fit a byte).
+func appendCell(b []byte, c Cell) []byte {
+	b = append(b, byte(c.kind))
+	str := func(b []byte, s string) []byte {
+		return append(binary.AppendUvarint(b, uint64(len(s))), s...)
+	}
+	switch c.kind {
+	case kindText:
+		b = str(b, c.text)
+	case kindNumber:
+		b = binary.LittleEndian.AppendUint64(append(b, byte(c.decimals+1)), math.Float64bits(c.num))
+	case kindBool:
+		b = append(b, boolByte(c.b))
+	case kindFormula:
+		b = binary.LittleEndian.AppendUint64(append(str(b, c.text), byte(c.decimals+1)), math.Float64bits(c.num))
+		b = str(append(b, boolByte(c.cachedText)), c.cached)
+	}
+	return b
+}
+
+func boolByte(v bool) byte {
+	if v {
+		return 1
+	}
+	return 0
+}
+
+// readCell unpacks the cell appendCell packed at the start of b and returns the rest.
+func readCell(b []byte) (Cell, []byte) {
+	c := Cell{kind: kind(b[0])}
+	b = b[1:]
+	str := func() string {
+		n, k := binary.Uvarint(b)
+		s := string(b[k : k+int(n)])
+		b = b[k+int(n):]
+		return s
+	}
+	num := func() {
+		c.decimals = int(b[0]) - 1
+		c.num = math.Float64frombits(binary.LittleEndian.Uint64(b[1:9]))
+		b = b[9:]
+	}
+	switch c.kind {
+	case kindText:
+		c.text = str()
+	case kindNumber:
+		num()
+	case kindBool:
+		c.b, b = b[0] == 1, b[1:]
+	case kindFormula:
+		c.text = str()
+		num()
+		c.cachedText, b = b[0] == 1, b[1:]
+		c.cached = str()
+	}
+	return c, b
+}
 
 // Range returns an absolute reference to the data cells of column col (0-based) on this
 // sheet, for formulas on any sheet: 'cost sheet'!$F$2:$F$101. With no rows it refers to the
 // first data row alone.
 func (s *Sheet) Range(col int) string {
-	last := len(s.rows) + 1
+	last := s.nrows + 1
 	if last < 2 {
 		last = 2
 	}
@@ -397,16 +490,12 @@ func (b *builder) sheet(s *Sheet) error {
 	widths := make([]int, len(s.Columns))
 	for c, col := range s.Columns {
 		widths[c] = utf8.RuneCountInString(col.Header()) + 2 // room for filter buttons
-	}
-	for _, row := range s.rows {
-		for c, cell := range row {
-			if n := utf8.RuneCountInString(cell.display()); n > widths[c] {
-				widths[c] = n
-			}
+		if c < len(s.widest) {
+			widths[c] = max(widths[c], s.widest[c])
 		}
 	}
 	if s.Filter && len(s.Columns) > 0 {
-		last := Ref(len(s.Columns)-1, max(len(s.rows)+1, 1))
+		last := Ref(len(s.Columns)-1, max(s.nrows+1, 1))
 		if err := f.AutoFilter(s.Name, "A1:"+last, nil); err != nil {
 			return err
 		}
@@ -441,7 +530,7 @@ func (b *builder) sheet(s *Sheet) error {
 			return err
 		}
 	}
-	for r, row := range s.rows {
+	err = s.eachRow(func(r int, row []Cell) error {
 		if r%rowCheckEvery == 0 {
 			if err := b.ctx.Err(); err != nil {
 				return err
@@ -458,6 +547,10 @@ func (b *builder) sheet(s *Sheet) error {
 		if err := sw.SetRow(Ref(0, r+2), vals); err != nil {
 			return fmt.Errorf("row %d: %w", r+2, err)
 		}
+		return nil
+	})
+	if err != nil {
+		return err
 	}
 	return sw.Flush()
 }
