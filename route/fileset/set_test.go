@@ -17,6 +17,16 @@ var begins = []struct {
 	begin func(ctx context.Context, dir string, names, protect []string) (*Set, error)
 }{{"beside", Begin}, {"in place", BeginInPlace}}
 
+// oldSet writes the set tagged old into a new output folder and returns the folder.
+func oldSet(t *testing.T) string {
+	t.Helper()
+	out := filepath.Join(t.TempDir(), "out")
+	if err := WriteFiles(context.Background(), out, outputSet("old"), nil); err != nil {
+		t.Fatal(err)
+	}
+	return out
+}
+
 // streamSet writes outputSet(tag) into set one file at a time, checking after each that dir
 // still holds the whole old set: nothing written reaches dir before Commit.
 func streamSet(t *testing.T, set *Set, dir, tag string) {
@@ -41,10 +51,7 @@ func streamSet(t *testing.T, set *Set, dir, tag string) {
 func TestSetWritesAsItRenders(t *testing.T) {
 	for _, b := range begins {
 		t.Run(b.name, func(t *testing.T) {
-			out := filepath.Join(t.TempDir(), "out")
-			if err := WriteFiles(context.Background(), out, outputSet("old"), nil); err != nil {
-				t.Fatal(err)
-			}
+			out := oldSet(t)
 			notes := filepath.Join(out, "notes.txt")
 			if err := os.WriteFile(notes, []byte("mine"), 0o600); err != nil {
 				t.Fatal(err)
@@ -119,10 +126,7 @@ func TestSetStopsWholeOrNothing(t *testing.T) {
 	for _, b := range begins {
 		for _, tc := range cases {
 			t.Run(b.name+"/"+tc.name, func(t *testing.T) {
-				out := filepath.Join(t.TempDir(), "out")
-				if err := WriteFiles(context.Background(), out, outputSet("old"), nil); err != nil {
-					t.Fatal(err)
-				}
+				out := oldSet(t)
 				ctx, cancel := context.WithCancel(context.Background())
 				defer cancel()
 				set, err := b.begin(ctx, out, names, nil)
@@ -149,10 +153,7 @@ func TestSetStopsWholeOrNothing(t *testing.T) {
 func TestSetRefusesBeforeWriting(t *testing.T) {
 	for _, b := range begins {
 		t.Run(b.name, func(t *testing.T) {
-			out := filepath.Join(t.TempDir(), "out")
-			if err := WriteFiles(context.Background(), out, outputSet("old"), nil); err != nil {
-				t.Fatal(err)
-			}
+			out := oldSet(t)
 			input := filepath.Join(out, "links.csv")
 			if _, err := b.begin(context.Background(), out, outputNames(outputSet("new")), []string{input}); !errors.Is(err, ErrOverwrite) {
 				t.Errorf("error %v, want ErrOverwrite", err)

@@ -238,6 +238,17 @@ func listOf(n int) listed { return listed{Shown: min(n, DetailRows), Of: n} }
 // Cut reports whether rows are left out.
 func (l listed) Cut() bool { return l.Shown < l.Of }
 
+// countOf counts the rows of a table for which is holds, listed or not.
+func countOf[T any](rows []T, is func(T) bool) int {
+	n := 0
+	for _, r := range rows {
+		if is(r) {
+			n++
+		}
+	}
+	return n
+}
+
 type legendItem struct {
 	Class, Stroke, Dash, Label string
 	Shape                      string
@@ -268,14 +279,13 @@ func Plan(ctx context.Context, r *route.Result, opt Options) ([]byte, error) {
 
 // WritePlan is Plan writing the page to w as the template renders it (through
 // escape.NewHTML), so that the page is never held whole; on failure w may hold part of it.
-// An error of w is returned as it is.
+// An error of w is returned wrapped.
 func WritePlan(ctx context.Context, w io.Writer, r *route.Result, opt Options) error {
 	v, err := planViewOf(ctx, r, opt)
 	if err != nil {
 		return err
 	}
-	rec := &firstError{w: w}
-	esc := escape.NewHTML(rec)
+	esc := escape.NewHTML(w)
 	bw := bufio.NewWriterSize(esc, pagePiece)
 	err = templates().ExecuteTemplate(ctxio.Writer(ctx, bw), "plan", v)
 	if err == nil {
@@ -287,8 +297,6 @@ func WritePlan(ctx context.Context, w io.Writer, r *route.Result, opt Options) e
 	switch {
 	case ctx.Err() != nil:
 		return ctx.Err()
-	case rec.err != nil:
-		return rec.err
 	case err != nil:
 		return fmt.Errorf("report: %w", err)
 	}
@@ -297,20 +305,6 @@ func WritePlan(ctx context.Context, w io.Writer, r *route.Result, opt Options) e
 
 // pagePiece is how many bytes of the page WritePlan gathers before escaping and writing them.
 const pagePiece = 64 << 10
-
-// firstError keeps the first error of the writer it wraps, to tell it from the template's.
-type firstError struct {
-	w   io.Writer
-	err error
-}
-
-func (f *firstError) Write(p []byte) (int, error) {
-	n, err := f.w.Write(p)
-	if err != nil && f.err == nil {
-		f.err = err
-	}
-	return n, err
-}
 
 // Output is the plan report as one of a plan's output files (FileName), rendered by
 // WritePlan when written (output.WriteSet).
@@ -743,12 +737,7 @@ func fillRows(r *route.Result) ([]fillRow, int, int, listed) {
 		}
 		return a.Span < b.Span
 	})
-	n := 0
-	for _, x := range list {
-		if over(x) {
-			n++
-		}
-	}
+	n := countOf(list, over)
 	shown := listOf(len(list))
 	out := make([]fillRow, shown.Shown)
 	for i, x := range list[:shown.Shown] {
@@ -890,12 +879,7 @@ func ductRows(fs []estimate.DuctFill) ([]ductRow, int, listed) {
 		}
 		return a.Duct < b.Duct
 	})
-	bad := 0
-	for _, f := range list {
-		if !f.OK {
-			bad++
-		}
-	}
+	bad := countOf(list, func(f estimate.DuctFill) bool { return !f.OK })
 	shown := listOf(len(list))
 	out := make([]ductRow, shown.Shown)
 	for i, f := range list[:shown.Shown] {
@@ -950,12 +934,7 @@ func pullRows(r *route.Result, opt Options) ([]pullRow, int, listed) {
 		}
 		return group(strconv.FormatFloat(n, 'f', 1, 64))
 	}
-	over := 0
-	for _, p := range ps {
-		if !p.WithinRating {
-			over++
-		}
-	}
+	over := countOf(ps, func(p estimate.PullSection) bool { return !p.WithinRating })
 	shown := listOf(len(ps))
 	out := make([]pullRow, shown.Shown)
 	for i, p := range ps[:shown.Shown] {

@@ -178,13 +178,5 @@ func CampusSite(tb testing.TB, n int) (*site.Site, *plan.Plan) {
 	if err != nil {
 		tb.Fatal(err)
 	}
-	files := make([]string, len(p.Campus))
-	for i, f := range p.Campus {
-		files[i] = p.Path(f)
-	}
-	s, err := site.Load(context.Background(), nil, files, site.Options{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM})
-	if err != nil {
-		tb.Fatal(err)
-	}
-	return s, p
+	return testsite.Load(tb, p), p
 }
