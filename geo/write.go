@@ -7,6 +7,7 @@ import (
 	"encoding/json"
 	"fmt"
 	"io"
+	"iter"
 	"math"
 	"slices"
 	"strconv"
@@ -177,8 +178,24 @@ const routeCheckEvery = 64
 // routes, returning ctx's error and writing nothing.
 func (n *Network) WriteRoutesContext(ctx context.Context, w io.Writer, feats []RouteFeature) error {
 	var buf bytes.Buffer
+	if err := n.WriteRoutesSeq(ctx, &buf, slices.Values(feats)); err != nil {
+		return err
+	}
+	_, err := w.Write(buf.Bytes())
+	return err
+}
+
+// routesPiece is how many bytes WriteRoutesSeq gathers before it writes them.
+const routesPiece = 64 << 10
+
+// WriteRoutesSeq is WriteRoutesContext for routes given one at a time, each written (in
+// pieces of about routesPiece bytes) before the next is asked for, so that neither the
+// routes nor the file are held whole: on failure w may hold part of the file.
+func (n *Network) WriteRoutesSeq(ctx context.Context, w io.Writer, feats iter.Seq[RouteFeature]) error {
+	var buf bytes.Buffer
 	buf.WriteString(`{"type":"FeatureCollection","features":[`)
-	for i, f := range feats {
+	i := 0
+	for f := range feats {
 		if i%routeCheckEvery == 0 {
 			if err := ctx.Err(); err != nil {
 				return err
@@ -195,6 +212,13 @@ func (n *Network) WriteRoutesContext(ctx context.Context, w io.Writer, feats []R
 		if err := writeFeature(&buf, ls, f.Props); err != nil {
 			return fmt.Errorf("route %d (%s to %s): %w", i+1, f.FromBuilding, f.ToBuilding, err)
 		}
+		if buf.Len() >= routesPiece {
+			if _, err := w.Write(buf.Bytes()); err != nil {
+				return err
+			}
+			buf.Reset()
+		}
+		i++
 	}
 	buf.WriteString("\n]}\n")
 	_, err := w.Write(buf.Bytes())

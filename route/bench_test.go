@@ -3,9 +3,8 @@ package route_test
 import (
 	"context"
 	"fmt"
-	"path/filepath"
 	"spanwright/route"
-	"spanwright/route/internal/campusgen"
+	"spanwright/route/internal/testplan"
 	"spanwright/route/internal/testsite"
 	"spanwright/route/plan"
 	"spanwright/route/site"
@@ -96,7 +95,7 @@ func solveFresh(b *testing.B, s *site.Site, p *plan.Plan) {
 func BenchmarkPlanCampus(b *testing.B) {
 	for _, n := range []int{1000, 5000} {
 		b.Run(fmt.Sprintf("buildings_%d", n), func(b *testing.B) {
-			s, p := campusSite(b, n)
+			s, p := testplan.CampusSite(b, n)
 			b.ReportAllocs()
 			b.ResetTimer()
 			solveFresh(b, s, p)
@@ -104,35 +103,12 @@ func BenchmarkPlanCampus(b *testing.B) {
 	}
 }
 
-// campusSite writes the generated campus of n buildings (seed 1, as campusfiles) to a
-// temporary folder and loads it as the command does.
-func campusSite(b testing.TB, n int) (*site.Site, *plan.Plan) {
-	b.Helper()
-	dir := b.TempDir()
-	if err := campusgen.WriteFiles(dir, campusgen.Generate(1, campusgen.BenchOptions(n)), 4); err != nil {
-		b.Fatal(err)
-	}
-	p, err := plan.LoadPlan(filepath.Join(dir, "plan.yaml"))
-	if err != nil {
-		b.Fatal(err)
-	}
-	files := make([]string, len(p.Campus))
-	for i, f := range p.Campus {
-		files[i] = p.Path(f)
-	}
-	s, err := site.Load(context.Background(), nil, files, site.Options{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM})
-	if err != nil {
-		b.Fatal(err)
-	}
-	return s, p
-}
-
 // TestBenchCampusRoutes: the generated campus the benchmarks time plans without an infeasible
 // link: its diverse links enter their buildings from two streets, so a diverse pair exists
 // for each, and the benchmarks time successful pair searches, not failures.
 func TestBenchCampusRoutes(t *testing.T) {
 	t.Parallel()
-	s, p := campusSite(t, 300)
+	s, p := testplan.CampusSite(t, 300)
 	r, err := route.Solve(context.Background(), s, p)
 	if err != nil {
 		t.Fatal(err)

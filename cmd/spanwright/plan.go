@@ -12,7 +12,6 @@ import (
 
 	"spanwright/route"
 	"spanwright/route/escape"
-	"spanwright/route/fileset"
 	"spanwright/route/output"
 	"spanwright/route/plan"
 	"spanwright/route/report"
@@ -75,15 +74,8 @@ func runPlan(ctx context.Context, fsys fs.FS, p *plan.Plan, out string, opt outp
 		return err
 	}
 	stage(ctx, "planned")
-	files, err := output.Files(ctx, res, opt)
-	if err != nil {
-		return err
-	}
-	rep, err := report.File(ctx, res, report.Options{Units: opt.Units})
-	if err != nil {
-		return err
-	}
-	if err := fileset.WriteFiles(ctx, out, append(files, rep), res.Inputs()); err != nil {
+	files := append(output.Outputs(res, opt), report.Output(res, report.Options{Units: opt.Units}))
+	if err := output.WriteSet(ctx, out, files, res.Inputs()); err != nil {
 		return err
 	}
 	if err := output.PrintSummary(w, res, opt); err != nil {

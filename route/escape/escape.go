@@ -253,30 +253,45 @@ func TerminalList(values []string) string {
 // before writing it to w: hidden characters are shown, line feed and tab stay, as the
 // writer's own lines need them (an id printed inside a line goes through Terminal first). A
 // UTF-8 sequence split between two writes is held until the next one.
-func NewTerminal(w io.Writer) io.Writer { return &terminal{w: w} }
+func NewTerminal(w io.Writer) io.Writer { return &visibleWriter{w: w, open: "<", close: ">"} }
 
-type terminal struct {
-	w    io.Writer
-	held []byte // the start of a UTF-8 sequence the last write ended in
+// NewHTML returns a writer that passes an HTML page rendered by html/template through HTML
+// on its way to w, for a page too large to hold: the bytes out are those HTML returns for the
+// whole page. A UTF-8 sequence split between two writes is held until the next one; Flush
+// writes one the page ended in. Give it large writes (a bufio.Writer in front): each write
+// is scanned once, and copied only when it holds something to show.
+func NewHTML(w io.Writer) io.Writer { return &visibleWriter{w: w, open: "&lt;", close: "&gt;"} }
+
+// visibleWriter writes what it is given through visible, with its brackets.
+type visibleWriter struct {
+	w           io.Writer
+	open, close string
+	held        []byte // the start of a UTF-8 sequence the last write ended in
 }
 
-// FlushTerminal writes what a writer from NewTerminal still holds (the start of a UTF-8
-// sequence no later write completed), shown as bytes (<0xNN>); other writers have nothing
-// to flush.
-func FlushTerminal(w io.Writer) error {
-	t, ok := w.(*terminal)
+// FlushTerminal writes what a writer from NewTerminal or NewHTML still holds (the start of a
+// UTF-8 sequence no later write completed), shown as bytes (<0xNN>); other writers have
+// nothing to flush.
+func FlushTerminal(w io.Writer) error { return Flush(w) }
+
+// Flush is FlushTerminal, by the name that fits a writer from NewHTML.
+func Flush(w io.Writer) error {
+	t, ok := w.(*visibleWriter)
 	if !ok || len(t.held) == 0 {
 		return nil
 	}
 	held := t.held
 	t.held = nil
-	_, err := io.WriteString(t.w, Visible(string(held)))
+	_, err := io.WriteString(t.w, visible(string(held), t.open, t.close))
 	return err
 }
 
-func (t *terminal) Write(p []byte) (int, error) {
-	buf := append(t.held, p...)
-	t.held = nil
+func (t *visibleWriter) Write(p []byte) (int, error) {
+	buf := p
+	if len(t.held) > 0 {
+		buf = append(t.held, p...)
+		t.held = nil
+	}
 	// Hold back a sequence cut at the end, at most utf8.UTFMax-1 bytes.
 	for k := 1; k < utf8.UTFMax && k <= len(buf); k++ {
 		c := buf[len(buf)-k]
@@ -291,7 +306,13 @@ func (t *terminal) Write(p []byte) (int, error) {
 			break
 		}
 	}
-	if _, err := io.WriteString(t.w, Visible(string(buf))); err != nil {
+	var err error
+	if needsVisible(buf) {
+		_, err = io.WriteString(t.w, visible(string(buf), t.open, t.close))
+	} else {
+		_, err = t.w.Write(buf)
+	}
+	if err != nil {
 		return 0, err
 	}
 	return len(p), nil

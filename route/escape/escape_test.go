@@ -3,6 +3,7 @@ package escape
 import (
 	"bytes"
 	"encoding/csv"
+	"io"
 	"strings"
 	"testing"
 	"unicode"
@@ -220,5 +221,40 @@ func TestFlushTerminal(t *testing.T) {
 	}
 	if got := b.String(); got != "id <0xE2><0x80>" {
 		t.Errorf("got %q, want the cut sequence shown as bytes", got)
+	}
+}
+
+// TestHTMLWriter: a page written in pieces of any size through NewHTML, then Flush, gives
+// the bytes HTML gives for the whole page: hidden characters (Unicode TR #9 / CVE-2021-42574
+// for U+202E; ECMA-48 for ESC), a byte that is not UTF-8 and a sequence the page ends in cut
+// (Unicode's rule: an ill-formed sequence must not vanish silently), wherever a piece ends.
+func TestHTMLWriter(t *testing.T) {
+	t.Parallel()
+	page := "<td>B\u202E1 → é 😀 \x1b[31m \xff</td>\n<td>plain</td>\xe2\x80"
+	want := string(HTML([]byte(page)))
+	if !strings.Contains(want, "&lt;U+202E&gt;") || !strings.HasSuffix(want, "&lt;0xE2&gt;&lt;0x80&gt;") {
+		t.Fatalf("HTML(page) = %q: the reference does not show the hidden characters", want)
+	}
+	for n := 1; n <= len(page); n++ {
+		var b strings.Builder
+		w := NewHTML(&b)
+		for i := 0; i < len(page); i += n {
+			end := min(i+n, len(page))
+			if k, err := w.Write([]byte(page[i:end])); err != nil || k != end-i {
+				t.Fatalf("pieces of %d: wrote %d of %d (%v)", n, k, end-i, err)
+			}
+		}
+		if err := Flush(w); err != nil {
+			t.Fatal(err)
+		}
+		if b.String() != want {
+			t.Errorf("pieces of %d: got %q, want %q", n, b.String(), want)
+		}
+	}
+	var b strings.Builder
+	w := NewHTML(&b)
+	io.WriteString(w, "<p>plain</p>")
+	if b.String() != "<p>plain</p>" {
+		t.Errorf("a plain page changed: %q", b.String())
 	}
 }

@@ -1,12 +1,15 @@
 package fileset
 
 import (
+	"bufio"
 	"context"
 	"errors"
 	"fmt"
+	"io"
 	"io/fs"
 	"os"
 	"path/filepath"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -109,27 +112,65 @@ const (
 // When ctx is done before the new set is switched in, WriteFiles removes what it wrote and
 // returns ctx's error: nothing is written.
 func WriteFiles(ctx context.Context, dir string, files []OutputFile, protect []string) error {
-	if err := ctx.Err(); err != nil {
-		return err
-	}
-	sorted, err := sortedOutputs(files)
+	set, err := Begin(ctx, dir, outputNames(files), protect)
 	if err != nil {
 		return err
+	}
+	return set.putAll(files)
+}
+
+// outputNames lists the files' names in order.
+func outputNames(files []OutputFile) []string {
+	names := make([]string, len(files))
+	for i, f := range files {
+		names[i] = f.Name
+	}
+	return names
+}
+
+// putAll writes files in name order into the set and commits it.
+func (s *Set) putAll(files []OutputFile) error {
+	sorted := append([]OutputFile(nil), files...)
+	sort.Slice(sorted, func(i, j int) bool { return sorted[i].Name < sorted[j].Name })
+	for _, f := range sorted {
+		if err := s.Write(f.Name, func(w io.Writer) error {
+			_, err := w.Write(f.Data)
+			return err
+		}); err != nil {
+			return err
+		}
+	}
+	return s.Commit()
+}
+
+// Begin starts a set of output files that will replace the outputs in dir as WriteFiles
+// does; names are the files the set will hold, each to be given to Write once. Everything
+// WriteFiles refuses before writing (an output that would replace an input, a folder in
+// the way) Begin refuses, writing nothing. When it returns a Set, a hidden folder is there
+// to write into: the caller writes each file with Write as soon as it is rendered, then
+// Commit, and defers Abort for the paths that stop early.
+func Begin(ctx context.Context, dir string, names []string, protect []string) (*Set, error) {
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	sorted, err := sortedNames(names)
+	if err != nil {
+		return nil, err
 	}
 	real, exists, err := resolveOut(dir)
 	if err != nil {
-		return err
+		return nil, err
 	}
 	parent, base := filepath.Dir(real), filepath.Base(real)
 	if parent == real {
-		return CommitFiles(ctx, real, files, protect)
+		return BeginInPlace(ctx, real, names, protect)
 	}
 	recoverSiblings(parent, base, real)
 	if _, err := os.Lstat(real); err == nil {
 		exists = true // restored from a killed run's leftovers
 	}
 	if err := newGuard(protect).check(real, sorted); err != nil {
-		return err
+		return nil, err
 	}
 	mode := fs.FileMode(0o755)
 	var keep []string
@@ -137,89 +178,226 @@ func WriteFiles(ctx context.Context, dir string, files []OutputFile, protect []s
 	if exists {
 		info, err := os.Stat(real)
 		if err != nil {
-			return outErr(real, err)
+			return nil, outErr(real, err)
 		}
 		mode, oldInfo = info.Mode().Perm(), info
 		if pinfo, err := os.Stat(parent); err != nil || !sameDevice(info, pinfo) {
-			return CommitFiles(ctx, real, files, protect)
+			return BeginInPlace(ctx, real, names, protect)
 		}
 		if wd, err := os.Stat("."); err == nil && os.SameFile(wd, info) {
 			// The shell that started us is most likely in dir: replacing the folder would
 			// leave it in the old one, empty, and relative paths typed there would fail.
-			return CommitFiles(ctx, real, files, protect)
+			return BeginInPlace(ctx, real, names, protect)
 		}
 		if err := RecoverFiles(real); err != nil {
-			return err
+			return nil, err
 		}
 		if keep, err = foreign(real, sorted); err != nil {
-			return err
+			return nil, err
 		}
 	}
 	tmp, err := os.MkdirTemp(parent, siblingPrefix(base, "new"))
 	if err != nil {
 		if exists && errors.Is(err, fs.ErrPermission) {
-			return CommitFiles(ctx, real, files, protect)
+			return BeginInPlace(ctx, real, names, protect)
 		}
-		return outErr(real, err)
-	}
-	fail := func(err error) error {
-		os.RemoveAll(tmp)
-		return err
+		return nil, outErr(real, err)
 	}
 	if err := os.Chmod(tmp, mode); err != nil {
-		return fail(outErr(real, err))
+		os.RemoveAll(tmp)
+		return nil, outErr(real, err)
 	}
 	if oldInfo != nil {
 		copyOwner(tmp, oldInfo)
 	}
-	if err := writeAll(tmp, real, sorted); err != nil {
-		return fail(err)
+	return newSet(ctx, real, tmp, sorted, false, exists, keep), nil
+}
+
+// A Set is a set of output files being written one at a time: each goes to its temporary
+// place as soon as it is rendered (Write), so that only one file is ever rendered in memory,
+// and Commit puts the whole set in place as one, as WriteFiles (a Set from Begin) or
+// CommitFiles (from BeginInPlace) does. Until Commit, dir holds its old files only: a failed
+// Write, Abort, a done context or a killed process leaves no new file in it (a killed one
+// leaves its hidden folder, which the next run removes). A Set is for one goroutine.
+type Set struct {
+	ctx     context.Context
+	real    string   // the output folder
+	tmp     string   // where the files are written: a hidden sibling of real, or a journal in it
+	names   []string // every file of the set, sorted
+	inPlace bool     // CommitFiles' way: tmp is a journal folder in real
+	exists  bool     // real existed: exchange the folders rather than rename
+	keep    []string // entries of real that are not outputs, linked into tmp before the switch
+	pending map[string]bool
+	done    bool // committed or aborted
+}
+
+func newSet(ctx context.Context, real, tmp string, names []string, inPlace, exists bool, keep []string) *Set {
+	pending := make(map[string]bool, len(names))
+	for _, n := range names {
+		pending[n] = true
 	}
-	for _, name := range keep {
-		if err := keepEntry(real, tmp, name); err != nil {
+	return &Set{ctx: ctx, real: real, tmp: tmp, names: names, inPlace: inPlace, exists: exists, keep: keep, pending: pending}
+}
+
+// Write writes the file name of the set: render writes its bytes to the writer it is given
+// (buffered; Write flushes it). Any error, render's own or the system's, aborts the set: an
+// error writing the file is an *OutputError naming the file's final place; render's error
+// is returned as it is (ctx's error when it stopped). When ctx is done before the file is
+// begun, the set is aborted and ctx's error returned. A name not given to Begin, or given
+// twice, is a caller's bug.
+func (s *Set) Write(name string, render func(w io.Writer) error) error {
+	if s.done {
+		return fmt.Errorf("fileset: output %s written after the set was committed or aborted", name)
+	}
+	if !s.pending[name] {
+		s.Abort()
+		return fmt.Errorf("fileset: output %s was not named when the set was begun, or is written twice", name)
+	}
+	delete(s.pending, name)
+	if err := s.ctx.Err(); err != nil {
+		s.Abort()
+		return err
+	}
+	if err := s.write(name, render); err != nil {
+		s.Abort()
+		return err
+	}
+	return nil
+}
+
+// fileBuffer is the size of the buffer between a renderer and its file.
+const fileBuffer = 64 << 10
+
+func (s *Set) write(name string, render func(w io.Writer) error) error {
+	path := filepath.Join(s.tmp, name)
+	final := filepath.Join(s.real, name)
+	if sub := filepath.Dir(path); sub != filepath.Clean(s.tmp) {
+		if err := os.MkdirAll(sub, 0o755); err != nil {
+			return outErr(filepath.Dir(final), err)
+		}
+	}
+	if err := hook("write", final); err != nil {
+		return outErr(final, err)
+	}
+	// No fsync: a rename already guarantees that a killed run leaves each set whole;
+	// syncing every file of every sweep scenario costs milliseconds each.
+	f, err := os.OpenFile(path, os.O_WRONLY|os.O_CREATE|os.O_EXCL, 0o644)
+	if err != nil {
+		return outErr(final, err)
+	}
+	rec := &recorder{w: f}
+	bw := bufio.NewWriterSize(rec, fileBuffer)
+	err = render(bw)
+	if err == nil {
+		err = bw.Flush()
+	}
+	if cerr := f.Close(); err == nil && cerr != nil {
+		rec.err = cerr
+		err = cerr
+	}
+	switch {
+	case rec.err != nil:
+		return outErr(final, rec.err)
+	case err != nil:
+		return err
+	}
+	return nil
+}
+
+// recorder keeps the first error of the writer it wraps: an error the renderer returns may be
+// the file's (a full disk) or its own.
+type recorder struct {
+	w   io.Writer
+	err error
+}
+
+func (r *recorder) Write(p []byte) (int, error) {
+	n, err := r.w.Write(p)
+	if err != nil && r.err == nil {
+		r.err = err
+	}
+	return n, err
+}
+
+// Commit puts the set in place (see WriteFiles and CommitFiles for how, and what a failure
+// leaves). Every file named to Begin must have been written; when ctx is done before the
+// switch, the set is aborted and ctx's error returned.
+func (s *Set) Commit() error {
+	if s.done {
+		return errors.New("fileset: set committed after it was committed or aborted")
+	}
+	if len(s.pending) > 0 {
+		missing := make([]string, 0, len(s.pending))
+		for n := range s.pending {
+			missing = append(missing, n)
+		}
+		sort.Strings(missing)
+		s.Abort()
+		return fmt.Errorf("fileset: outputs %s named but not written", strings.Join(missing, ", "))
+	}
+	if s.inPlace {
+		return s.commitInPlace()
+	}
+	s.done = true
+	fail := func(err error) error {
+		os.RemoveAll(s.tmp)
+		return err
+	}
+	for _, name := range s.keep {
+		if err := keepEntry(s.real, s.tmp, name); err != nil {
 			return fail(err)
 		}
 	}
-	if err := ctx.Err(); err != nil {
+	if err := s.ctx.Err(); err != nil {
 		return fail(err)
 	}
-	if err := hook("switch", real); err != nil {
-		return fail(outErr(real, err))
+	if err := hook("switch", s.real); err != nil {
+		return fail(outErr(s.real, err))
 	}
-	if !exists {
-		if err := os.Rename(tmp, real); err != nil {
-			return fail(outErr(real, err))
+	if !s.exists {
+		if err := os.Rename(s.tmp, s.real); err != nil {
+			return fail(outErr(s.real, err))
 		}
 		return nil
 	}
-	old, err := swap(tmp, real, base)
+	old, err := swap(s.tmp, s.real, filepath.Base(s.real))
 	if err != nil {
-		return fail(outErr(real, err))
+		return fail(outErr(s.real, err))
 	}
-	return dropOld(old, real, sorted)
+	return dropOld(old, s.real, s.names)
 }
 
-// sortedOutputs returns files sorted by name, refusing names that are not plain relative
+// Abort removes what the set wrote; dir is left as it was. It does nothing once the set is
+// committed or aborted, so a caller may defer it.
+func (s *Set) Abort() {
+	if s.done {
+		return
+	}
+	s.done = true
+	os.RemoveAll(s.tmp)
+}
+
+// sortedNames returns the outputs' names sorted, refusing names that are not plain relative
 // paths or that repeat: a caller's bug.
-func sortedOutputs(files []OutputFile) ([]OutputFile, error) {
-	sorted := append([]OutputFile(nil), files...)
-	sort.Slice(sorted, func(i, j int) bool { return sorted[i].Name < sorted[j].Name })
-	for i, f := range sorted {
-		if !filepath.IsLocal(f.Name) || strings.HasPrefix(filepath.Base(f.Name), ourPrefix) {
-			return nil, fmt.Errorf("output name %q: want a file name inside the output folder", f.Name)
+func sortedNames(names []string) ([]string, error) {
+	sorted := slices.Clone(names)
+	sort.Strings(sorted)
+	for i, n := range sorted {
+		if !filepath.IsLocal(n) || strings.HasPrefix(filepath.Base(n), ourPrefix) {
+			return nil, fmt.Errorf("output name %q: want a file name inside the output folder", n)
 		}
-		if i > 0 && sorted[i-1].Name == f.Name {
-			return nil, fmt.Errorf("two outputs named %s", f.Name)
+		if i > 0 && sorted[i-1] == n {
+			return nil, fmt.Errorf("two outputs named %s", n)
 		}
 	}
 	return sorted, nil
 }
 
 // topNames is the set of the first path elements of the outputs' names.
-func topNames(files []OutputFile) map[string]bool {
-	top := make(map[string]bool, len(files))
-	for _, f := range files {
-		top[strings.Split(filepath.ToSlash(f.Name), "/")[0]] = true
+func topNames(names []string) map[string]bool {
+	top := make(map[string]bool, len(names))
+	for _, n := range names {
+		top[strings.Split(filepath.ToSlash(n), "/")[0]] = true
 	}
 	return top
 }
@@ -284,13 +462,13 @@ func CheckOverwrite(dir string, files []OutputFile, protect []string) error {
 	if err != nil {
 		return nil // not there yet (or not reachable: the writer will say so)
 	}
-	return newGuard(protect).check(real, files)
+	return newGuard(protect).check(real, outputNames(files))
 }
 
 // check refuses, wrapping ErrOverwrite, when an output in dir is one of the guarded files.
-func (g guard) check(dir string, files []OutputFile) error {
-	for _, f := range files {
-		final := filepath.Join(dir, f.Name)
+func (g guard) check(dir string, names []string) error {
+	for _, n := range names {
+		final := filepath.Join(dir, n)
 		info, err := os.Stat(final)
 		if err != nil {
 			continue
@@ -329,14 +507,14 @@ func writeAll(dir, finalDir string, files []OutputFile) error {
 // foreign lists the entries of dir that are not outputs, to keep in the replacing folder, and
 // refuses what cannot be kept by linking: folders and special files, and a folder in the way
 // of an output file.
-func foreign(dir string, files []OutputFile) ([]string, error) {
+func foreign(dir string, names []string) ([]string, error) {
 	ents, err := os.ReadDir(dir)
 	if err != nil {
 		return nil, outErr(dir, err)
 	}
 	top, sub := map[string]bool{}, map[string]bool{} // outputs' first path elements; those that are folders
-	for _, f := range files {
-		first, _, nested := strings.Cut(filepath.ToSlash(f.Name), "/")
+	for _, n := range names {
+		first, _, nested := strings.Cut(filepath.ToSlash(n), "/")
 		top[first] = true
 		sub[first] = sub[first] || nested
 	}
@@ -419,8 +597,8 @@ func swap(tmp, real, base string) (string, error) {
 
 // dropOld removes the replaced folder old, first moving back into real any entry that
 // appeared in old after foreign listed it (a file the user saved meanwhile).
-func dropOld(old, real string, files []OutputFile) error {
-	top := topNames(files)
+func dropOld(old, real string, names []string) error {
+	top := topNames(names)
 	ents, err := os.ReadDir(old)
 	if err != nil {
 		// Files saved into the old folder during the switch cannot be listed: keep the folder
@@ -526,39 +704,52 @@ func recoverSiblings(parent, base, real string) {
 // the files in protect is refused, wrapping ErrOverwrite. When ctx is done before the mark,
 // nothing new is left and ctx's error is returned.
 func CommitFiles(ctx context.Context, dir string, files []OutputFile, protect []string) error {
-	if err := ctx.Err(); err != nil {
-		return err
-	}
-	sorted, err := sortedOutputs(files)
+	set, err := BeginInPlace(ctx, dir, outputNames(files), protect)
 	if err != nil {
 		return err
 	}
+	return set.putAll(files)
+}
+
+// BeginInPlace starts a set of output files that Commit puts into dir as CommitFiles does;
+// names, Write, Commit and Abort are as for Begin.
+func BeginInPlace(ctx context.Context, dir string, names []string, protect []string) (*Set, error) {
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	sorted, err := sortedNames(names)
+	if err != nil {
+		return nil, err
+	}
 	if info, err := os.Stat(dir); err == nil && !info.IsDir() {
-		return &OutputError{Path: dir, Err: errors.New("it is a file, not a folder")}
+		return nil, &OutputError{Path: dir, Err: errors.New("it is a file, not a folder")}
 	}
 	if err := os.MkdirAll(dir, 0o755); err != nil {
-		return outErr(dir, err)
+		return nil, outErr(dir, err)
 	}
 	if err := RecoverFiles(dir); err != nil {
-		return err
+		return nil, err
 	}
 	if err := newGuard(protect).check(dir, sorted); err != nil {
-		return err
+		return nil, err
 	}
-	for _, f := range sorted {
-		if info, err := os.Lstat(filepath.Join(dir, f.Name)); err == nil && info.IsDir() {
-			return fmt.Errorf("%w: %s is a folder where the output %s goes; move it or choose another --out folder", ErrOutFolder, filepath.Join(dir, f.Name), f.Name)
+	for _, n := range sorted {
+		if info, err := os.Lstat(filepath.Join(dir, n)); err == nil && info.IsDir() {
+			return nil, fmt.Errorf("%w: %s is a folder where the output %s goes; move it or choose another --out folder", ErrOutFolder, filepath.Join(dir, n), n)
 		}
 	}
 	stage, err := os.MkdirTemp(dir, stagePrefix+strconv.Itoa(os.Getpid())+"-")
 	if err != nil {
-		return outErr(dir, err)
+		return nil, outErr(dir, err)
 	}
-	if err := writeAll(stage, dir, sorted); err != nil {
-		os.RemoveAll(stage)
-		return err
-	}
-	if err := ctx.Err(); err != nil {
+	return newSet(ctx, dir, stage, sorted, true, true, nil), nil
+}
+
+// commitInPlace marks the journal whole and rolls it forward (CommitFiles).
+func (s *Set) commitInPlace() error {
+	s.done = true
+	dir, stage := s.real, s.tmp
+	if err := s.ctx.Err(); err != nil {
 		os.RemoveAll(stage)
 		return err
 	}
@@ -657,9 +848,10 @@ func rollForward(dir, stage string) error {
 // into place (as a sweep publishes a scenario folder): the folder's rename is what makes the
 // set appear whole, so the files go straight to their names.
 func WriteFresh(dir string, files []OutputFile) error {
-	sorted, err := sortedOutputs(files)
-	if err != nil {
+	if _, err := sortedNames(outputNames(files)); err != nil {
 		return err
 	}
+	sorted := append([]OutputFile(nil), files...)
+	sort.Slice(sorted, func(i, j int) bool { return sorted[i].Name < sorted[j].Name })
 	return writeAll(dir, dir, sorted)
 }

@@ -1,9 +1,9 @@
 package output
 
 import (
-	"bytes"
 	"context"
 	"fmt"
+	"io"
 	"math"
 	"slices"
 	"strconv"
@@ -109,11 +109,10 @@ func fromCell(l media.BOMLine) string {
 // extended price, and last the legs, buildings, spans or junctions it comes from), then a subtotal row per category and for all, contingency, overhead,
 // tax and total. Money has two decimals; imperial unit prices per foot are the extended price
 // over the feet shown, with six decimals or as many more as the row needs to multiply out.
-func bomCSV(r *route.Result, opt WriteOptions) ([]byte, error) {
+func bomCSV(out io.Writer, r *route.Result, opt WriteOptions) error {
 	b := r.Estimate.BOM
 	cur := strings.ToLower(b.Currency)
-	var buf bytes.Buffer
-	w := escape.NewWriter(&buf)
+	w := escape.NewWriter(out)
 	w.Write([]string{"category", "item", "unit", "quantity", "unit_price_" + cur, "extended_" + cur, "from"})
 	for _, l := range b.Lines {
 		unit, qty, price := bomUnit(opt, l)
@@ -138,10 +137,7 @@ func bomCSV(r *route.Result, opt WriteOptions) ([]byte, error) {
 	w.Write([]string{rowTax, pct(b.TaxBP) + " % of " + taxedWords(b), "%", pct(b.TaxBP),
 		media.FormatCents(b.TaxBaseCents), media.FormatCents(b.TaxCents), ""})
 	w.Write([]string{rowTotal, b.Label, "", "", "", media.FormatCents(b.TotalCents), ""})
-	if err := w.Flush(); err != nil {
-		return nil, err
-	}
-	return buf.Bytes(), nil
+	return w.Flush()
 }
 
 // money is an amount in integer cents in currency units, as a workbook's money cells hold it.
@@ -172,7 +168,7 @@ func xlUnitsOf(opt WriteOptions) xlUnits {
 // pull sections, duct fill and loss budgets. Extended prices, subtotals, markups, the
 // total and the budget check are formulas, so a changed unit price or quantity moves
 // them. Physical quantities are numbers with their unit in the header.
-func bomXLSX(ctx context.Context, r *route.Result, opt WriteOptions) ([]byte, error) {
+func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptions) error {
 	u := xlUnitsOf(opt)
 	b := r.Estimate.BOM
 	cur := b.Currency
@@ -417,7 +413,7 @@ func bomXLSX(ctx context.Context, r *route.Result, opt WriteOptions) ([]byte, er
 			loss.Append(row...)
 		}
 	}
-	return wb.BytesContext(ctx)
+	return wb.WriteToContext(ctx, out)
 }
 
 // passage is the links sheet's last cells of a leg, as text: links.csv's last columns (see

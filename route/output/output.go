@@ -21,7 +21,6 @@ import (
 	"spanwright/route/escape"
 	"spanwright/route/estimate"
 	"spanwright/route/fileset"
-	"spanwright/route/internal/ctxio"
 	"spanwright/route/routing"
 	"spanwright/route/site"
 )
@@ -54,71 +53,103 @@ func (o WriteOptions) lengthCol(name string) (string, func(m float64) string) {
 	return name + "_m", func(m float64) string { return strconv.FormatFloat(m, 'f', 1, 64) }
 }
 
-// Files renders every output file of the result in memory. When ctx is done it returns
-// ctx's error and no file.
-func Files(ctx context.Context, r *route.Result, opt WriteOptions) ([]fileset.OutputFile, error) {
-	routes, err := routesGeoJSON(ctx, r)
-	if err != nil {
-		return nil, err
-	}
-	if err := ctx.Err(); err != nil {
-		return nil, err
-	}
-	links, err := linksCSV(r, opt)
-	if err != nil {
-		return nil, err
-	}
-	sum, err := summaryJSON(r)
-	if err != nil {
-		return nil, err
-	}
-	files := []fileset.OutputFile{
-		{Name: "routes.geojson", Data: routes},
-		{Name: "links.csv", Data: links},
-		{Name: "summary.json", Data: sum},
-	}
-	if err := ctx.Err(); err != nil {
-		return nil, err
+// File is one output file of a planned scenario: its name in the output folder and how to
+// render it. Render writes the whole file to w or returns an error (ctx's when ctx is done);
+// what it wrote before an error is not to be used.
+type File struct {
+	Name   string
+	Render func(ctx context.Context, w io.Writer) error
+}
+
+// Outputs lists the output files of the result, in the order they are rendered:
+// routes.geojson, links.csv, summary.json, plan.gpkg (unless opt.SkipGeoPackage), and with a
+// bill of materials bom.csv and bom.xlsx (unless opt.SkipWorkbook). Nothing is rendered
+// until a file's Render is called.
+func Outputs(r *route.Result, opt WriteOptions) []File {
+	files := []File{
+		{Name: "routes.geojson", Render: func(ctx context.Context, w io.Writer) error { return routesGeoJSON(ctx, w, r) }},
+		{Name: "links.csv", Render: func(ctx context.Context, w io.Writer) error { return linksCSV(w, r, opt) }},
+		{Name: "summary.json", Render: func(ctx context.Context, w io.Writer) error { return summaryJSON(w, r) }},
 	}
 	if !opt.SkipGeoPackage {
-		gp, err := planGeoPackage(ctx, r)
-		if ctx.Err() != nil {
-			return nil, ctx.Err()
-		}
-		if err != nil {
-			return nil, fmt.Errorf("%s: %w", geoPackageFileName, err)
-		}
-		files = append(files, fileset.OutputFile{Name: geoPackageFileName, Data: gp})
+		files = append(files, File{Name: geoPackageFileName, Render: func(ctx context.Context, w io.Writer) error {
+			data, err := planGeoPackage(ctx, r)
+			if err == nil {
+				_, err = w.Write(data)
+			}
+			return named(ctx, geoPackageFileName, err)
+		}})
 	}
 	if r.Estimate == nil || r.Estimate.BOM == nil {
-		return files, nil
+		return files
 	}
-	bom, err := bomCSV(r, opt)
-	if err != nil {
-		return nil, fmt.Errorf("bom.csv: %w", err)
-	}
-	files = append(files, fileset.OutputFile{Name: "bom.csv", Data: bom})
+	files = append(files, File{Name: "bom.csv", Render: func(ctx context.Context, w io.Writer) error {
+		return named(ctx, "bom.csv", bomCSV(w, r, opt))
+	}})
 	if !opt.SkipWorkbook {
-		xl, err := bomXLSX(ctx, r, opt)
-		if ctx.Err() != nil {
-			return nil, ctx.Err()
+		files = append(files, File{Name: "bom.xlsx", Render: func(ctx context.Context, w io.Writer) error {
+			return named(ctx, "bom.xlsx", bomXLSX(ctx, w, r, opt))
+		}})
+	}
+	return files
+}
+
+// named is err with the file's name before it, or ctx's error alone when ctx is done.
+func named(ctx context.Context, name string, err error) error {
+	switch {
+	case ctx.Err() != nil:
+		return ctx.Err()
+	case err != nil:
+		return fmt.Errorf("%s: %w", name, err)
+	}
+	return nil
+}
+
+// Files renders every output file of the result in memory (Outputs, in order). When ctx is
+// done it returns ctx's error and no file.
+func Files(ctx context.Context, r *route.Result, opt WriteOptions) ([]fileset.OutputFile, error) {
+	outs := Outputs(r, opt)
+	files := make([]fileset.OutputFile, 0, len(outs))
+	for _, f := range outs {
+		if err := ctx.Err(); err != nil {
+			return nil, err
 		}
-		if err != nil {
-			return nil, fmt.Errorf("bom.xlsx: %w", err)
+		var buf bytes.Buffer
+		if err := f.Render(ctx, &buf); err != nil {
+			return nil, err
 		}
-		files = append(files, fileset.OutputFile{Name: "bom.xlsx", Data: xl})
+		files = append(files, fileset.OutputFile{Name: f.Name, Data: buf.Bytes()})
 	}
 	return files, nil
 }
 
-// Write renders the outputs and writes them atomically into dir; when ctx is done it writes
-// nothing and returns ctx's error (see WriteFiles).
+// Write renders the outputs and writes them as one set into dir (WriteSet); when ctx is done
+// it writes nothing and returns ctx's error.
 func Write(ctx context.Context, r *route.Result, dir string, opt WriteOptions) error {
-	files, err := Files(ctx, r, opt)
+	return WriteSet(ctx, dir, Outputs(r, opt), r.Inputs())
+}
+
+// WriteSet writes files into dir as one set (fileset.Begin): each is rendered straight into
+// its temporary file and dropped before the next is rendered, so that only one file's
+// rendering is in memory at a time, and the set replaces dir's outputs once every file is
+// whole. A file that fails to render, or ctx done, leaves dir as it was; an output that
+// would replace one of the files in protect is refused before anything is rendered.
+func WriteSet(ctx context.Context, dir string, files []File, protect []string) error {
+	names := make([]string, len(files))
+	for i, f := range files {
+		names[i] = f.Name
+	}
+	set, err := fileset.Begin(ctx, dir, names, protect)
 	if err != nil {
 		return err
 	}
-	return fileset.WriteFiles(ctx, dir, files, r.Inputs())
+	defer set.Abort()
+	for _, f := range files {
+		if err := set.Write(f.Name, func(w io.Writer) error { return f.Render(ctx, w) }); err != nil {
+			return err
+		}
+	}
+	return set.Commit()
 }
 
 func round1(x float64) float64 {
@@ -131,16 +162,21 @@ func round2(x float64) float64 {
 	return v
 }
 
-func routesGeoJSON(ctx context.Context, r *route.Result) ([]byte, error) {
-	var feats []geo.RouteFeature
-	for i := range r.Legs {
-		if err := ctxio.StopEvery(ctx, i); err != nil {
-			return nil, err
+// routesGeoJSON writes routes.geojson: one feature per feasible leg, each built as it is
+// written (geo.Network.WriteRoutesSeq looks at ctx every few routes).
+func routesGeoJSON(ctx context.Context, w io.Writer, r *route.Result) error {
+	return r.Site.Net.WriteRoutesSeq(ctx, w, func(yield func(geo.RouteFeature) bool) {
+		for i := range r.Legs {
+			if l := &r.Legs[i]; l.Feasible && !yield(routeFeature(r, l)) {
+				return
+			}
 		}
-		l := &r.Legs[i]
-		if !l.Feasible {
-			continue
-		}
+	})
+}
+
+// routeFeature is the feature of routes.geojson of the feasible leg l.
+func routeFeature(r *route.Result, l *routing.Leg) geo.RouteFeature {
+	{
 		tr := travelOf(r.Site.Net, l)
 		props := map[string]any{
 			"link":         l.Link.ID,
@@ -180,18 +216,12 @@ func routesGeoJSON(ctx context.Context, r *route.Result) ([]byte, error) {
 		}
 		f := LegRoute(l)
 		f.Props = props
-		feats = append(feats, f)
+		return f
 	}
-	var buf bytes.Buffer
-	if err := r.Site.Net.WriteRoutesContext(ctx, &buf, feats); err != nil {
-		return nil, err
-	}
-	return buf.Bytes(), nil
 }
 
-func linksCSV(r *route.Result, opt WriteOptions) ([]byte, error) {
-	var buf bytes.Buffer
-	w := escape.NewWriter(&buf)
+func linksCSV(out io.Writer, r *route.Result, opt WriteOptions) error {
+	w := escape.NewWriter(out)
 	routeH, routeF := opt.lengthCol("route")
 	latH, latF := opt.lengthCol("lateral")
 	riserH, riserF := opt.lengthCol("riser")
@@ -244,10 +274,7 @@ func linksCSV(r *route.Result, opt WriteOptions) ([]byte, error) {
 		row = append(row, passageText(l, tr)...)
 		w.Write(append(row, l.ReasonCode))
 	}
-	if err := w.Flush(); err != nil {
-		return nil, err
-	}
-	return buf.Bytes(), nil
+	return w.Flush()
 }
 
 // metresText finds a length in metres in a text of the rules ("a 247.41 m channel").
@@ -475,12 +502,13 @@ func BoundGap(objectiveCents, boundCents int64) (bound *int64, gap *float64) {
 	return &b, &g
 }
 
-func summaryJSON(r *route.Result) ([]byte, error) {
+func summaryJSON(w io.Writer, r *route.Result) error {
 	b, err := json.MarshalIndent(Summarize(r), "", "  ")
 	if err != nil {
-		return nil, fmt.Errorf("summary: %w", err)
+		return fmt.Errorf("summary: %w", err)
 	}
-	return append(b, '\n'), nil
+	_, err = w.Write(append(b, '\n'))
+	return err
 }
 
 // gapText formats a gap (a fraction) in percent; "—" for none.

@@ -93,10 +93,11 @@ func TestLinksCSVPayloads(t *testing.T) {
 func TestImperialBOMMultipliesOut(t *testing.T) {
 	t.Parallel()
 	r := testplan.DemoResult(t)
-	data, err := bomCSV(r, WriteOptions{Units: UnitsImperial})
-	if err != nil {
+	var buf bytes.Buffer
+	if err := bomCSV(&buf, r, WriteOptions{Units: UnitsImperial}); err != nil {
 		t.Fatal(err)
 	}
+	data := buf.Bytes()
 	rows, err := csv.NewReader(bytes.NewReader(data)).ReadAll()
 	if err != nil {
 		t.Fatal(err)
@@ -133,10 +134,11 @@ func TestReasonsInUnits(t *testing.T) {
 		t.Errorf("metric: %s", got)
 	}
 	r := testplan.DemoResult(t)
-	data, err := linksCSV(r, WriteOptions{Units: UnitsImperial})
-	if err != nil {
+	var buf bytes.Buffer
+	if err := linksCSV(&buf, r, WriteOptions{Units: UnitsImperial}); err != nil {
 		t.Fatal(err)
 	}
+	data := buf.Bytes()
 	rows := testplan.ReadCSV(t, data)
 	reason := slices.Index(rows[0], "reason")
 	for _, row := range rows[1:] {

@@ -3,12 +3,20 @@ package report
 import (
 	"context"
 	"fmt"
+	"io"
 	"os"
 	"path/filepath"
+	"runtime"
+	"runtime/metrics"
+	"sync"
+	"sync/atomic"
 	"testing"
+	"time"
 
 	"spanwright/route"
 	"spanwright/route/internal/campusgen"
+	"spanwright/route/internal/testplan"
+	"spanwright/route/output"
 	"spanwright/route/plan"
 	"spanwright/route/site"
 	"spanwright/route/sweep"
@@ -79,4 +87,81 @@ func BenchmarkSweep(b *testing.B) {
 			}
 		}
 	})
+}
+
+// BenchmarkPlanOutputs plans a generated campus that looks like a real one
+// (campusgen.BenchOptions, as BenchmarkCommands of cmd/spanwright) once, then writes every
+// output, report.html included, as `spanwright plan` does (output.WriteSet), b.N times. It
+// reports the heap before writing (live-MB, after a collection: the plan, the site and the
+// caches) and at its highest while writing (peak-MB: heap objects, live and not yet
+// collected, sampled every millisecond from runtime/metrics), and for each file the highest
+// heap while it was rendered (FILE-peak-MB). Run it on one core, once per count:
+//
+//	go test -run '^$' -bench PlanOutputs -benchtime 1x -count 3 -cpu 1 ./route/report/
+func BenchmarkPlanOutputs(b *testing.B) {
+	for _, n := range []int{1000, 5000} {
+		b.Run(fmt.Sprintf("buildings_%d", n), func(b *testing.B) {
+			s, p := testplan.CampusSite(b, n)
+			r, err := route.Solve(context.Background(), s, p)
+			if err != nil {
+				b.Fatal(err)
+			}
+			files := append(output.Outputs(r, output.WriteOptions{}), Output(r, Options{}))
+			var current atomic.Int32 // the file being rendered, an index into files
+			peaks := make([]atomic.Uint64, len(files)+1)
+			for i := range files {
+				f := files[i]
+				files[i].Render = func(ctx context.Context, w io.Writer) error {
+					current.Store(int32(i))
+					defer current.Store(int32(len(files)))
+					return f.Render(ctx, w)
+				}
+			}
+			out := filepath.Join(b.TempDir(), "out")
+			runtime.GC()
+			live := heapObjects()
+			stop := make(chan struct{})
+			var sampled sync.WaitGroup
+			sampled.Go(func() {
+				tick := time.NewTicker(time.Millisecond)
+				defer tick.Stop()
+				for {
+					select {
+					case <-stop:
+						return
+					case <-tick.C:
+						h, at := heapObjects(), &peaks[current.Load()]
+						if h > at.Load() {
+							at.Store(h)
+						}
+					}
+				}
+			})
+			b.ReportAllocs()
+			b.ResetTimer()
+			for b.Loop() {
+				if err := output.WriteSet(context.Background(), out, files, r.Inputs()); err != nil {
+					b.Fatal(err)
+				}
+			}
+			b.StopTimer()
+			close(stop)
+			sampled.Wait()
+			const mb = 1 << 20
+			b.ReportMetric(float64(live)/mb, "live-MB")
+			peak := uint64(0)
+			for i := range files {
+				peak = max(peak, peaks[i].Load())
+				b.ReportMetric(float64(peaks[i].Load())/mb, files[i].Name+"-peak-MB")
+			}
+			b.ReportMetric(float64(peak)/mb, "peak-MB")
+		})
+	}
+}
+
+// heapObjects is the heap's objects in bytes, live and not yet collected.
+func heapObjects() uint64 {
+	s := []metrics.Sample{{Name: "/memory/classes/heap/objects:bytes"}}
+	metrics.Read(s)
+	return s[0].Value.Uint64()
 }

@@ -1,10 +1,12 @@
 package report
 
 import (
+	"bufio"
 	"bytes"
 	"context"
 	"fmt"
 	"html/template"
+	"io"
 	"math"
 	"slices"
 	"sort"
@@ -214,6 +216,37 @@ type planView struct {
 	Objective, Bound, Gap string
 	Warnings              []string
 	Buildings             []buildingRow
+	// How much of each detail table is listed (DetailRows).
+	LegsListed, PullsListed, DuctsListed, FillListed listed
+}
+
+// DetailRows is the most rows a detail table of the plan report lists: the links, the pull
+// sections and the duct fill. A plan with more lists those that most need a look (infeasible
+// legs and the thinnest loss margins; pulls nearest their cable's rated tension; ducts over
+// or nearest their fill limit), says so above the table and names the files that hold every
+// row (links.csv, bom.xlsx, plan.gpkg). A page of tens of thousands of rows (120 MB of HTML
+// at 5,000 buildings) is more than a browser opens usefully, and such lists are read in a
+// spreadsheet. The demo's largest table has 131 rows. Common practice, no published source.
+const DetailRows = 250
+
+// listed says how many rows of a detail table the report lists, of how many.
+type listed struct{ Shown, Of int }
+
+// listOf is how much of a table of n rows is listed.
+func listOf(n int) listed { return listed{Shown: min(n, DetailRows), Of: n} }
+
+// Cut reports whether rows are left out.
+func (l listed) Cut() bool { return l.Shown < l.Of }
+
+// countOf counts the rows of a table for which is holds, listed or not.
+func countOf[T any](rows []T, is func(T) bool) int {
+	n := 0
+	for _, r := range rows {
+		if is(r) {
+			n++
+		}
+	}
+	return n
 }
 
 type legendItem struct {
@@ -237,19 +270,48 @@ type legend struct {
 // only when a leg's steps do not match the network (a programmer's error upstream), or with
 // ctx's error when ctx is done before the page is whole.
 func Plan(ctx context.Context, r *route.Result, opt Options) ([]byte, error) {
-	v, err := planViewOf(ctx, r, opt)
-	if err != nil {
+	var b bytes.Buffer
+	if err := WritePlan(ctx, &b, r, opt); err != nil {
 		return nil, err
 	}
-	var b bytes.Buffer
-	err = templates().ExecuteTemplate(ctxio.Writer(ctx, &b), "plan", v)
-	if ctx.Err() != nil {
-		return nil, ctx.Err()
-	}
+	return b.Bytes(), nil
+}
+
+// WritePlan is Plan writing the page to w as the template renders it (through
+// escape.NewHTML), so that the page is never held whole; on failure w may hold part of it.
+// An error of w is returned wrapped.
+func WritePlan(ctx context.Context, w io.Writer, r *route.Result, opt Options) error {
+	v, err := planViewOf(ctx, r, opt)
 	if err != nil {
-		return nil, fmt.Errorf("report: %w", err)
+		return err
 	}
-	return escape.HTML(b.Bytes()), nil
+	esc := escape.NewHTML(w)
+	bw := bufio.NewWriterSize(esc, pagePiece)
+	err = templates().ExecuteTemplate(ctxio.Writer(ctx, bw), "plan", v)
+	if err == nil {
+		err = bw.Flush()
+	}
+	if err == nil {
+		err = escape.Flush(esc)
+	}
+	switch {
+	case ctx.Err() != nil:
+		return ctx.Err()
+	case err != nil:
+		return fmt.Errorf("report: %w", err)
+	}
+	return nil
+}
+
+// pagePiece is how many bytes of the page WritePlan gathers before escaping and writing them.
+const pagePiece = 64 << 10
+
+// Output is the plan report as one of a plan's output files (FileName), rendered by
+// WritePlan when written (output.WriteSet).
+func Output(r *route.Result, opt Options) output.File {
+	return output.File{Name: FileName, Render: func(ctx context.Context, w io.Writer) error {
+		return WritePlan(ctx, w, r, opt)
+	}}
 }
 
 // legCheckEvery is how many legs the map draws between two looks at the context.
@@ -384,11 +446,11 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 	v.Media = mediaRows(r, opt, med, order)
 	v.Wavelength = wavelengths(r)
 	v.ReasonSpan = 11 + len(v.Wavelength)
-	v.Legs, v.Infeasible = legRows(r, opt, med, names, v.Wavelength)
+	v.Legs, v.Infeasible, v.LegsListed = legRows(r, opt, med, names, v.Wavelength)
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
-	v.Fill, v.FillOver, v.FillOpen = fillRows(r)
+	v.Fill, v.FillOver, v.FillOpen, v.FillListed = fillRows(r)
 	v.ModelCost = money(s.ModelCents)
 	if s.LowerBound != nil {
 		v.Objective, v.Bound, v.Gap = money(s.ObjectiveCents), money(*s.LowerBound), "—"
@@ -400,8 +462,8 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 		v.HasEst = true
 		v.BOMLabel = e.BOM.Label
 		v.Subtotal = money(e.BOM.SubtotalCents)
-		v.Ducts, v.DuctsOver = ductRows(e.Fill)
-		v.Pulls, v.PullsOver = pullRows(r, opt)
+		v.Ducts, v.DuctsOver, v.DuctsListed = ductRows(e.Fill)
+		v.Pulls, v.PullsOver, v.PullsListed = pullRows(r, opt)
 		v.PullPoints = e.AddedPullPoints
 		for _, d := range s.CostDrivers {
 			v.Drivers = append(v.Drivers, driverRow{Category: d.Category, Item: d.Item, Cost: money(d.Cents),
@@ -536,85 +598,115 @@ func wavelengths(r *route.Result) []int {
 	return out
 }
 
-func legRows(r *route.Result, opt Options, med map[string]mediumInfo, names map[string]string, nms []int) ([]legRow, int) {
-	var bad, good []legRow
+// legRows lists the legs, the infeasible ones first (by link, primary before diverse) and
+// how many of those there are, and says how many it lists (DetailRows): when there are
+// more legs, the feasible ones follow by their loss margin, thinnest first (legs without a
+// loss budget last), and the list is cut; otherwise they follow in leg order.
+func legRows(r *route.Result, opt Options, med map[string]mediumInfo, names map[string]string, nms []int) ([]legRow, int, listed) {
+	var bad, good []int
 	for i := range r.Legs {
-		l := &r.Legs[i]
-		pathways, crosses, turns := output.LegLists(r.Site.Net, l) // from→to, as every output lists them
-		row := legRow{Link: l.Link.ID, Leg: l.Name, From: l.Link.From, To: l.Link.To,
-			FromName: names[l.Link.From], ToName: names[l.Link.To], Rate: l.Link.Rate, Feasible: l.Feasible,
-			Application: l.Application, Construction: l.ConstructionText(), Strands: strconv.Itoa(l.StrandsCable),
-			Route: opt.length(l.RouteM), Lat: opt.length(l.LateralM), Riser: opt.length(l.RiserM),
-			Cost: money(l.Cost.TotalCents()), EntranceFrom: l.EntranceFrom, EntranceTo: l.EntranceTo,
-			Crosses: crosses, Turns: turns}
-		if l.Link.FutureRate != "" {
-			row.Rate += " → " + l.Link.FutureRate
-		}
-		row.Pathways = strings.Join(pathways, " ")
-		if l.Feasible {
-			row.Reason = output.InUnits(output.WriteOptions{Units: opt.Units}, l.Choice)
-			for _, rj := range l.Rejected {
-				row.Rejected = append(row.Rejected, output.InUnits(output.WriteOptions{Units: opt.Units}, rj.Reason))
-			}
+		if r.Legs[i].Feasible {
+			good = append(good, i)
 		} else {
-			row.Reason = output.InUnits(output.WriteOptions{Units: opt.Units}, l.Reason)
-		}
-		if l.Medium != "" {
-			row.Medium, row.HasMedium = med[l.Medium], true
-		}
-		for _, nm := range nms {
-			c := lossCell{}
-			for _, x := range l.Losses {
-				if x.WavelengthNM == nm {
-					c = lossCell{Text: dB(x.LossDB), Operating: x.Operating}
-				}
-			}
-			row.Losses = append(row.Losses, c)
-		}
-		var worst *media.Loss
-		for k := range l.Losses {
-			x := &l.Losses[k]
-			if x.Operating && (worst == nil || x.MarginDB < worst.MarginDB) {
-				worst = x
-			}
-		}
-		if worst != nil && worst.LimitDB > 0 {
-			row.Limit, row.Margin = dB(worst.LimitDB), dB(worst.MarginDB)
-			lossW := 100 * worst.LossDB / worst.LimitDB
-			if lossW > 100 {
-				lossW = 100
-			}
-			if lossW < 0 {
-				lossW = 0
-			}
-			b := &marginBar{LossW: num(lossW), MarginW: num(100 - lossW), Class: "ok"}
-			switch {
-			case worst.MarginDB < 0:
-				b.Class = "bad"
-			case worst.MarginDB < worst.RequiredMarginDB:
-				b.Class = "thin"
-			}
-			row.Bar = b
-		}
-		if l.Feasible {
-			good = append(good, row)
-		} else {
-			bad = append(bad, row)
+			bad = append(bad, i)
 		}
 	}
 	sort.SliceStable(bad, func(i, j int) bool {
-		if bad[i].Link != bad[j].Link {
-			return bad[i].Link < bad[j].Link
+		a, b := &r.Legs[bad[i]], &r.Legs[bad[j]]
+		if a.Link.ID != b.Link.ID {
+			return a.Link.ID < b.Link.ID
 		}
-		return bad[i].Leg > bad[j].Leg // primary before diverse
+		return a.Name > b.Name // primary before diverse
 	})
-	return append(bad, good...), len(bad)
+	list := listOf(len(r.Legs))
+	if list.Cut() {
+		margin := func(l *routing.Leg) (float64, bool) {
+			w, ok := l.WorstLoss()
+			return w.MarginDB, ok && w.LimitDB > 0
+		}
+		sort.SliceStable(good, func(i, j int) bool {
+			a, aok := margin(&r.Legs[good[i]])
+			b, bok := margin(&r.Legs[good[j]])
+			if aok != bok {
+				return aok
+			}
+			return aok && a < b
+		})
+	}
+	order := append(bad, good...)[:list.Shown]
+	rows := make([]legRow, len(order))
+	for k, i := range order {
+		rows[k] = legRowOf(r, &r.Legs[i], opt, med, names, nms)
+	}
+	return rows, len(bad), list
+}
+
+// legRowOf is the links table's row of the leg l.
+func legRowOf(r *route.Result, l *routing.Leg, opt Options, med map[string]mediumInfo, names map[string]string, nms []int) legRow {
+	pathways, crosses, turns := output.LegLists(r.Site.Net, l) // from→to, as every output lists them
+	row := legRow{Link: l.Link.ID, Leg: l.Name, From: l.Link.From, To: l.Link.To,
+		FromName: names[l.Link.From], ToName: names[l.Link.To], Rate: l.Link.Rate, Feasible: l.Feasible,
+		Application: l.Application, Construction: l.ConstructionText(), Strands: strconv.Itoa(l.StrandsCable),
+		Route: opt.length(l.RouteM), Lat: opt.length(l.LateralM), Riser: opt.length(l.RiserM),
+		Cost: money(l.Cost.TotalCents()), EntranceFrom: l.EntranceFrom, EntranceTo: l.EntranceTo,
+		Crosses: crosses, Turns: turns}
+	if l.Link.FutureRate != "" {
+		row.Rate += " → " + l.Link.FutureRate
+	}
+	row.Pathways = strings.Join(pathways, " ")
+	if l.Feasible {
+		row.Reason = output.InUnits(output.WriteOptions{Units: opt.Units}, l.Choice)
+		for _, rj := range l.Rejected {
+			row.Rejected = append(row.Rejected, output.InUnits(output.WriteOptions{Units: opt.Units}, rj.Reason))
+		}
+	} else {
+		row.Reason = output.InUnits(output.WriteOptions{Units: opt.Units}, l.Reason)
+	}
+	if l.Medium != "" {
+		row.Medium, row.HasMedium = med[l.Medium], true
+	}
+	for _, nm := range nms {
+		c := lossCell{}
+		for _, x := range l.Losses {
+			if x.WavelengthNM == nm {
+				c = lossCell{Text: dB(x.LossDB), Operating: x.Operating}
+			}
+		}
+		row.Losses = append(row.Losses, c)
+	}
+	var worst *media.Loss
+	for k := range l.Losses {
+		x := &l.Losses[k]
+		if x.Operating && (worst == nil || x.MarginDB < worst.MarginDB) {
+			worst = x
+		}
+	}
+	if worst != nil && worst.LimitDB > 0 {
+		row.Limit, row.Margin = dB(worst.LimitDB), dB(worst.MarginDB)
+		lossW := 100 * worst.LossDB / worst.LimitDB
+		if lossW > 100 {
+			lossW = 100
+		}
+		if lossW < 0 {
+			lossW = 0
+		}
+		b := &marginBar{LossW: num(lossW), MarginW: num(100 - lossW), Class: "ok"}
+		switch {
+		case worst.MarginDB < 0:
+			b.Class = "bad"
+		case worst.MarginDB < worst.RequiredMarginDB:
+			b.Class = "thin"
+		}
+		row.Bar = b
+	}
+	return row
 }
 
 // fillRows lists the spans whose ducts limit the fill, those over the NFPA 70 Chapter 9
 // Table 1 area first, then by fill, then by span id; it also counts the spans with no fill
-// limit (tunnel, tray, aerial, buried, proposed trench).
-func fillRows(r *route.Result) ([]fillRow, int, int) {
+// limit (tunnel, tray, aerial, buried, proposed trench). It lists at most DetailRows spans
+// and says how many; the count over is of them all.
+func fillRows(r *route.Result) ([]fillRow, int, int, listed) {
 	type f struct {
 		routing.SegmentFill
 		ratio float64
@@ -645,9 +737,10 @@ func fillRows(r *route.Result) ([]fillRow, int, int) {
 		}
 		return a.Span < b.Span
 	})
-	out := make([]fillRow, len(list))
-	n := 0
-	for i, x := range list {
+	n := countOf(list, over)
+	shown := listOf(len(list))
+	out := make([]fillRow, shown.Shown)
+	for i, x := range list[:shown.Shown] {
 		ducts := strconv.Itoa(x.Ducts)
 		if x.AddedDucts > 0 {
 			ducts += " + " + strconv.Itoa(x.AddedDucts) + " added"
@@ -659,11 +752,8 @@ func fillRows(r *route.Result) ([]fillRow, int, int) {
 		out[i] = fillRow{Span: x.Span, Pathway: x.PathwayID, Cables: x.Cables, Ducts: ducts,
 			Used: strconv.FormatFloat(x.UsedAreaMM2, 'f', 0, 64), Allowed: strconv.FormatFloat(x.AllowedAreaMM2, 'f', 0, 64),
 			Pct: pct(x.ratio), BarW: num(w), Over: over(x)}
-		if out[i].Over {
-			n++
-		}
 	}
-	return out, n, open
+	return out, n, open, shown
 }
 
 // legendOf lists what the map shows: the pathway types and statuses present, the media of
@@ -768,7 +858,7 @@ func present(drawn map[string]bool, items []legendItem) []legendItem {
 // ductRows lists the fill of every duct that holds cable on a span of limited capacity:
 // ducts over the NFPA 70 Chapter 9 Table 1 fill or at risk of a jam first, then by fill
 // relative to its limit, then by span and duct.
-func ductRows(fs []estimate.DuctFill) ([]ductRow, int) {
+func ductRows(fs []estimate.DuctFill) ([]ductRow, int, listed) {
 	list := append([]estimate.DuctFill(nil), fs...)
 	ratio := func(f estimate.DuctFill) float64 {
 		if f.AllowedPct <= 0 {
@@ -789,9 +879,10 @@ func ductRows(fs []estimate.DuctFill) ([]ductRow, int) {
 		}
 		return a.Duct < b.Duct
 	})
-	out := make([]ductRow, len(list))
-	bad := 0
-	for i, f := range list {
+	bad := countOf(list, func(f estimate.DuctFill) bool { return !f.OK })
+	shown := listOf(len(list))
+	out := make([]ductRow, shown.Shown)
+	for i, f := range list[:shown.Shown] {
 		duct := strconv.Itoa(f.Duct)
 		if f.Added {
 			duct += " (added)"
@@ -815,17 +906,14 @@ func ductRows(fs []estimate.DuctFill) ([]ductRow, int) {
 		if f.JamRatio > 0 {
 			row.Jam = strconv.FormatFloat(f.JamRatio, 'f', 2, 64)
 		}
-		if row.Bad {
-			bad++
-		}
 		out[i] = row
 	}
-	return out, bad
+	return out, bad, shown
 }
 
 // pullRows lists every pull section: those over the cable's rated tension first, then by
 // tension relative to the rating, then in leg order.
-func pullRows(r *route.Result, opt Options) ([]pullRow, int) {
+func pullRows(r *route.Result, opt Options) ([]pullRow, int, listed) {
 	ps := append([]estimate.PullSection(nil), r.Estimate.Pulls...)
 	ratio := func(p estimate.PullSection) float64 {
 		if p.RatedN <= 0 {
@@ -846,9 +934,10 @@ func pullRows(r *route.Result, opt Options) ([]pullRow, int) {
 		}
 		return group(strconv.FormatFloat(n, 'f', 1, 64))
 	}
-	out := make([]pullRow, len(ps))
-	over := 0
-	for i, p := range ps {
+	over := countOf(ps, func(p estimate.PullSection) bool { return !p.WithinRating })
+	shown := listOf(len(ps))
+	out := make([]pullRow, shown.Shown)
+	for i, p := range ps[:shown.Shown] {
 		l := &r.Legs[p.Leg]
 		var added []string
 		if p.AddedFrom {
@@ -862,12 +951,9 @@ func pullRows(r *route.Result, opt Options) ([]pullRow, int) {
 			Tension: force(p.TensionN), Other: force(p.OtherN), Rated: force(p.RatedN),
 			BarW: num(math.Min(100*ratio(p), 100)), SWBP: group(strconv.FormatFloat(p.SWBPNPerM, 'f', 0, 64)),
 			Added: strings.Join(added, ", "), Over: !p.WithinRating, Reason: p.Reason}
-		if row.Over {
-			over++
-		}
 		out[i] = row
 	}
-	return out, over
+	return out, over, shown
 }
 
 // fillBar is a 100 px bar filled to w px, red when over; limitX, when not "", marks a limit.

@@ -5,7 +5,10 @@ import (
 	"bytes"
 	"compress/flate"
 	"context"
+	"encoding/binary"
 	"fmt"
+	"hash"
+	"hash/crc32"
 	"io"
 	"io/fs"
 	"math"
@@ -161,7 +164,11 @@ type Sheet struct {
 	Columns []Column
 	// Filter, when true, adds filter buttons to the header row.
 	Filter bool
-	rows   [][]Cell
+	// The rows appended, packed (appendCell) one after the other: a large workbook holds
+	// hundreds of thousands of cells, and a Cell is 64 bytes before its text.
+	rows   []byte
+	nrows  int
+	widest []int // per column, the widest cell appended, in characters as shown
 }
 
 // Append adds a row; a row shorter than the columns ends with blank cells. It panics if the
@@ -170,17 +177,105 @@ func (s *Sheet) Append(cells ...Cell) {
 	if len(cells) > len(s.Columns) {
 		panic(fmt.Sprintf("workbook: sheet %q: row of %d cells, sheet has %d columns", s.Name, len(cells), len(s.Columns)))
 	}
-	s.rows = append(s.rows, append([]Cell(nil), cells...))
+	if len(s.widest) < len(s.Columns) {
+		s.widest = append(s.widest, make([]int, len(s.Columns)-len(s.widest))...)
+	}
+	s.rows = binary.AppendUvarint(s.rows, uint64(len(cells)))
+	for c, cell := range cells {
+		s.rows = appendCell(s.rows, cell)
+		s.widest[c] = max(s.widest[c], utf8.RuneCountInString(cell.display()))
+	}
+	s.nrows++
 }
 
 // Rows returns the number of rows appended, the header not counted.
-func (s *Sheet) Rows() int { return len(s.rows) }
+func (s *Sheet) Rows() int { return s.nrows }
+
+// eachRow calls f with every row appended, in order, as long as f returns nil; the row's
+// slice is reused from one call to the next.
+func (s *Sheet) eachRow(f func(r int, row []Cell) error) error {
+	var row []Cell
+	data := s.rows
+	for r := 0; r < s.nrows; r++ {
+		n, k := binary.Uvarint(data)
+		data = data[k:]
+		row = row[:0]
+		for range n {
+			var c Cell
+			c, data = readCell(data)
+			row = append(row, c)
+		}
+		if err := f(r, row); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// appendCell packs c onto b: its kind, then what the kind needs (text and cached text
+// length-prefixed, numbers as their IEEE 754 bits, decimals shifted by one to fit a byte).
+func appendCell(b []byte, c Cell) []byte {
+	b = append(b, byte(c.kind))
+	str := func(b []byte, s string) []byte {
+		return append(binary.AppendUvarint(b, uint64(len(s))), s...)
+	}
+	switch c.kind {
+	case kindText:
+		b = str(b, c.text)
+	case kindNumber:
+		b = binary.LittleEndian.AppendUint64(append(b, byte(c.decimals+1)), math.Float64bits(c.num))
+	case kindBool:
+		b = append(b, boolByte(c.b))
+	case kindFormula:
+		b = binary.LittleEndian.AppendUint64(append(str(b, c.text), byte(c.decimals+1)), math.Float64bits(c.num))
+		b = str(append(b, boolByte(c.cachedText)), c.cached)
+	}
+	return b
+}
+
+func boolByte(v bool) byte {
+	if v {
+		return 1
+	}
+	return 0
+}
+
+// readCell unpacks the cell appendCell packed at the start of b and returns the rest.
+func readCell(b []byte) (Cell, []byte) {
+	c := Cell{kind: kind(b[0])}
+	b = b[1:]
+	str := func() string {
+		n, k := binary.Uvarint(b)
+		s := string(b[k : k+int(n)])
+		b = b[k+int(n):]
+		return s
+	}
+	num := func() {
+		c.decimals = int(b[0]) - 1
+		c.num = math.Float64frombits(binary.LittleEndian.Uint64(b[1:9]))
+		b = b[9:]
+	}
+	switch c.kind {
+	case kindText:
+		c.text = str()
+	case kindNumber:
+		num()
+	case kindBool:
+		c.b, b = b[0] == 1, b[1:]
+	case kindFormula:
+		c.text = str()
+		num()
+		c.cachedText, b = b[0] == 1, b[1:]
+		c.cached = str()
+	}
+	return c, b
+}
 
 // Range returns an absolute reference to the data cells of column col (0-based) on this
 // sheet, for formulas on any sheet: 'cost sheet'!$F$2:$F$101. With no rows it refers to the
 // first data row alone.
 func (s *Sheet) Range(col int) string {
-	last := len(s.rows) + 1
+	last := s.nrows + 1
 	if last < 2 {
 		last = 2
 	}
@@ -257,26 +352,50 @@ func (w *Workbook) WriteTo(out io.Writer) (int64, error) {
 	return w.writeTo(context.Background(), out)
 }
 
+// WriteToContext is WriteTo that gives up when ctx is done, returning ctx's error, as
+// BytesContext does; out may then hold part of a file.
+func (w *Workbook) WriteToContext(ctx context.Context, out io.Writer) error {
+	_, err := w.writeTo(ctx, out)
+	return err
+}
+
 func (w *Workbook) writeTo(ctx context.Context, out io.Writer) (int64, error) {
-	f, err := w.build(ctx)
+	// excelize's WriteTo packs the file into a buffer of its own and then copies it to out;
+	// the zip writer it is given (sortedZip) writes to out itself instead, so the packed file
+	// is never held whole, and excelize's buffer stays empty.
+	cw := &countWriter{w: ctxio.Writer(ctx, out)}
+	f, err := w.build(ctx, cw)
 	if err != nil {
 		return 0, err
 	}
 	defer f.Close()
-	n, err := f.WriteTo(ctxio.Writer(ctx, out))
+	_, err = f.WriteTo(cw)
 	if err := ctx.Err(); err != nil {
-		return n, err
+		return cw.n, err
 	}
 	if err != nil {
-		return n, fmt.Errorf("workbook: write: %w", err)
+		return cw.n, fmt.Errorf("workbook: write: %w", err)
 	}
-	return n, nil
+	return cw.n, nil
+}
+
+// countWriter counts the bytes written through it.
+type countWriter struct {
+	w io.Writer
+	n int64
+}
+
+func (c *countWriter) Write(p []byte) (int, error) {
+	n, err := c.w.Write(p)
+	c.n += int64(n)
+	return n, err
 }
 
 // rowCheckEvery is how many rows a sheet renders between two looks at the context.
 const rowCheckEvery = 256
 
-func (w *Workbook) build(ctx context.Context) (*excelize.File, error) {
+// build lays out the workbook; its zip writer writes the packed file to out.
+func (w *Workbook) build(ctx context.Context, out io.Writer) (*excelize.File, error) {
 	if len(w.sheets) == 0 {
 		return nil, fmt.Errorf("workbook: no sheets")
 	}
@@ -292,7 +411,7 @@ func (w *Workbook) build(ctx context.Context) (*excelize.File, error) {
 		seen[key] = true
 	}
 	f := excelize.NewFile()
-	f.SetZipWriter(func(w io.Writer) excelize.ZipWriter { return newSortedZip(ctx, w) })
+	f.SetZipWriter(func(io.Writer) excelize.ZipWriter { return newSortedZip(ctx, out) })
 	b := &builder{ctx: ctx, f: f, styles: map[styleKey]int{}}
 	for i, s := range w.sheets {
 		err := ctx.Err()
@@ -371,16 +490,12 @@ func (b *builder) sheet(s *Sheet) error {
 	widths := make([]int, len(s.Columns))
 	for c, col := range s.Columns {
 		widths[c] = utf8.RuneCountInString(col.Header()) + 2 // room for filter buttons
-	}
-	for _, row := range s.rows {
-		for c, cell := range row {
-			if n := utf8.RuneCountInString(cell.display()); n > widths[c] {
-				widths[c] = n
-			}
+		if c < len(s.widest) {
+			widths[c] = max(widths[c], s.widest[c])
 		}
 	}
 	if s.Filter && len(s.Columns) > 0 {
-		last := Ref(len(s.Columns)-1, max(len(s.rows)+1, 1))
+		last := Ref(len(s.Columns)-1, max(s.nrows+1, 1))
 		if err := f.AutoFilter(s.Name, "A1:"+last, nil); err != nil {
 			return err
 		}
@@ -415,7 +530,7 @@ func (b *builder) sheet(s *Sheet) error {
 			return err
 		}
 	}
-	for r, row := range s.rows {
+	err = s.eachRow(func(r int, row []Cell) error {
 		if r%rowCheckEvery == 0 {
 			if err := b.ctx.Err(); err != nil {
 				return err
@@ -432,6 +547,10 @@ func (b *builder) sheet(s *Sheet) error {
 		if err := sw.SetRow(Ref(0, r+2), vals); err != nil {
 			return fmt.Errorf("row %d: %w", r+2, err)
 		}
+		return nil
+	})
+	if err != nil {
+		return err
 	}
 	return sw.Flush()
 }
@@ -472,21 +591,58 @@ func (b *builder) value(c Cell) (any, error) {
 
 // sortedZip collects the parts excelize writes and stores them in name order when closed:
 // excelize writes streamed sheets in map order, which would change the bytes from run to run.
-// Once ctx is done, every write and the close fail with its error.
+// Each part is compressed as it is written (a sheet's XML is about ten times its deflated
+// size, and a large workbook's sheets are hundreds of megabytes of it) and the compressed
+// parts are stored as they are (zip.Writer.CreateRaw), with the headers CreateHeader would
+// write, so the file is the same bytes as compressing them at the close. Once ctx is done,
+// every write and the close fail with its error.
 type sortedZip struct {
 	ctx   context.Context
 	w     io.Writer
-	parts map[string]*bytes.Buffer
+	parts map[string]*zipPart
+	open  *zipPart // the part being written: excelize writes one part at a time, as zip.Writer wants
+}
+
+// zipPart is one part, deflated as it is written.
+type zipPart struct {
+	data bytes.Buffer // deflated
+	crc  hash.Hash32  // of the part as written
+	size uint64       // bytes written
+	comp io.WriteCloser
+}
+
+func (p *zipPart) Write(b []byte) (int, error) {
+	p.crc.Write(b)
+	p.size += uint64(len(b))
+	return p.comp.Write(b)
 }
 
 func newSortedZip(ctx context.Context, w io.Writer) excelize.ZipWriter {
-	return &sortedZip{ctx: ctx, w: w, parts: map[string]*bytes.Buffer{}}
+	return &sortedZip{ctx: ctx, w: w, parts: map[string]*zipPart{}}
 }
 
 func (z *sortedZip) Create(name string) (io.Writer, error) {
-	b := &bytes.Buffer{}
-	z.parts[name] = b
-	return ctxio.Writer(z.ctx, b), nil
+	if err := z.closePart(); err != nil {
+		return nil, err
+	}
+	p := &zipPart{crc: crc32.NewIEEE()}
+	comp, err := fastDeflate(&p.data)
+	if err != nil {
+		return nil, err
+	}
+	p.comp = comp
+	z.parts[name], z.open = p, p
+	return ctxio.Writer(z.ctx, p), nil
+}
+
+// closePart ends the compression of the part being written.
+func (z *sortedZip) closePart() error {
+	if z.open == nil {
+		return nil
+	}
+	p := z.open
+	z.open = nil
+	return p.comp.Close()
 }
 
 func (z *sortedZip) AddFS(fs.FS) error {
@@ -494,36 +650,39 @@ func (z *sortedZip) AddFS(fs.FS) error {
 }
 
 func (z *sortedZip) Close() error {
+	if err := z.closePart(); err != nil {
+		return err
+	}
 	names := make([]string, 0, len(z.parts))
 	for n := range z.parts {
 		names = append(names, n)
 	}
 	sort.Strings(names)
 	zw := zip.NewWriter(z.w)
-	zw.RegisterCompressor(zip.Deflate, fastDeflate)
 	for _, n := range names {
-		fw, err := zw.CreateHeader(&zip.FileHeader{Name: n, Method: zip.Deflate})
+		if err := z.ctx.Err(); err != nil {
+			return err
+		}
+		p := z.parts[n]
+		// The header zip.Writer.CreateHeader gives a part it compresses: version 2.0, sizes
+		// and checksum in a data descriptor after the data (APPNOTE.TXT 4.3.9), no time.
+		fw, err := zw.CreateRaw(&zip.FileHeader{Name: n, Method: zip.Deflate, Flags: 0x8,
+			CreatorVersion: zipVersion20, ReaderVersion: zipVersion20,
+			CRC32: p.crc.Sum32(), CompressedSize64: uint64(p.data.Len()), UncompressedSize64: p.size})
 		if err != nil {
 			return err
 		}
-		// In pieces, so that a stop ends a large sheet's compression soon; deflate's output
-		// does not depend on how its input is split into writes.
-		w := ctxio.Writer(z.ctx, fw)
-		for data := z.parts[n].Bytes(); ; data = data[partPiece:] {
-			if _, err := w.Write(data[:min(len(data), partPiece)]); err != nil {
-				return err
-			}
-			if len(data) <= partPiece {
-				break
-			}
+		if _, err := fw.Write(p.data.Bytes()); err != nil {
+			return err
 		}
+		delete(z.parts, n) // written: let it go
 	}
 	return zw.Close()
 }
 
-// partPiece is how many bytes of a part sortedZip compresses between two looks at the
-// context: a few milliseconds of deflate.
-const partPiece = 1 << 18
+// zipVersion20 is the zip format version 2.0 (deflate), as archive/zip writes it
+// (PKWARE APPNOTE.TXT 4.4.3).
+const zipVersion20 = 20
 
 // flateWriters are reused: a compressor holds about a megabyte of state.
 var flateWriters = sync.Pool{New: func() any {

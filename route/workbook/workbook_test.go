@@ -6,8 +6,10 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
+	"unicode/utf8"
 
 	"github.com/xuri/excelize/v2"
 )
@@ -377,5 +379,51 @@ for row in ws.iter_rows(min_row=1):
 	}
 	if out != want.String() {
 		t.Errorf("openpyxl read:\n%s\nwant:\n%s", out, want.String())
+	}
+}
+
+// TestRowsPacked: every kind of cell comes back from a sheet's packed rows as it was
+// appended, rows shorter than the columns included, and the widest cell of each column is
+// the widest shown (IEEE 754 bits kept: -0 and a formula's NaN result as given).
+func TestRowsPacked(t *testing.T) {
+	t.Parallel()
+	s := New().AddSheet("s", Column{Name: "a"}, Column{Name: "b"}, Column{Name: "c"})
+	rows := [][]Cell{
+		{Text("B\u202E1"), Number(1.25, 2), Int(1 << 53)},
+		{Blank(), Bool(true)},
+		{Formula("SUM(A1:A2)", math.NaN(), 3), FormulaText(`IFERROR(A1,"")`, "é"), Number(math.Copysign(0, -1), -1)},
+		{},
+		{Text(""), Bool(false), Cents(-12345)},
+	}
+	for _, r := range rows {
+		s.Append(r...)
+	}
+	if s.Rows() != len(rows) {
+		t.Fatalf("%d rows, want %d", s.Rows(), len(rows))
+	}
+	widest := make([]int, 3)
+	err := s.eachRow(func(r int, got []Cell) error {
+		want := rows[r]
+		if len(got) != len(want) {
+			t.Fatalf("row %d: %d cells, want %d", r, len(got), len(want))
+		}
+		for c := range want {
+			g, w := got[c], want[c]
+			if math.Float64bits(g.num) != math.Float64bits(w.num) {
+				t.Errorf("row %d cell %d: number %v, want %v", r, c, g.num, w.num)
+			}
+			g.num, w.num = 0, 0
+			if g != w {
+				t.Errorf("row %d cell %d: %+v, want %+v", r, c, g, w)
+			}
+			widest[c] = max(widest[c], utf8.RuneCountInString(want[c].display()))
+		}
+		return nil
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !slices.Equal(s.widest, widest) {
+		t.Errorf("widest %v, want %v", s.widest, widest)
 	}
 }

@@ -6,11 +6,13 @@ import (
 	"encoding/csv"
 	"os"
 	"os/exec"
+	"path/filepath"
 	"slices"
 	"spanwright/geo"
 	"spanwright/media"
 	"spanwright/route"
 	"spanwright/route/fileset"
+	"spanwright/route/internal/campusgen"
 	"spanwright/route/internal/testsite"
 	"spanwright/route/plan"
 	"spanwright/route/routing"
@@ -162,4 +164,19 @@ func Openpyxl(t *testing.T) string {
 		t.Skip("python3-openpyxl not installed (apt-get install python3-openpyxl)")
 	}
 	return py
+}
+
+// CampusSite writes the generated campus of n buildings (campusgen.BenchOptions, seed 1, as
+// campusfiles writes it) to a temporary folder and loads it and its plan as the command does.
+func CampusSite(tb testing.TB, n int) (*site.Site, *plan.Plan) {
+	tb.Helper()
+	dir := tb.TempDir()
+	if err := campusgen.WriteFiles(dir, campusgen.Generate(1, campusgen.BenchOptions(n)), 4); err != nil {
+		tb.Fatal(err)
+	}
+	p, err := plan.LoadPlan(filepath.Join(dir, "plan.yaml"))
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return testsite.Load(tb, p), p
 }

@@ -168,6 +168,13 @@ func SynthPlan(s *site.Site) *plan.Plan {
 func DemoFresh(tb testing.TB) (*site.Site, *plan.Plan) {
 	tb.Helper()
 	_, p := Demo(tb)
+	return Load(tb, p), p
+}
+
+// Load loads the campus of the plan p into a site, with the plan's snapping and lateral
+// limits, as the command does.
+func Load(tb testing.TB, p *plan.Plan) *site.Site {
+	tb.Helper()
 	files := make([]string, len(p.Campus))
 	for i, f := range p.Campus {
 		files[i] = p.Path(f)
@@ -176,7 +183,7 @@ func DemoFresh(tb testing.TB) (*site.Site, *plan.Plan) {
 	if err != nil {
 		tb.Fatal(err)
 	}
-	return s, p
+	return s
 }
 
 // Pull campus, on a local metre grid at latitude 52 (invented place): the hub A and the

@@ -1,0 +1,64 @@
+package output
+
+import (
+	"context"
+	"errors"
+	"io"
+	"os"
+	"path/filepath"
+	"testing"
+
+	"spanwright/route/fileset"
+)
+
+// TestWriteSet: the files are rendered one after the other into the set and put in place
+// together; an output that would replace an input is refused before anything is rendered;
+// a renderer's failure stops the set there, leaving the folder as it was and the files
+// after it unrendered (README, "Outputs": whole or nothing).
+func TestWriteSet(t *testing.T) {
+	t.Parallel()
+	var rendered []string
+	file := func(name, body string, err error) File {
+		return File{Name: name, Render: func(_ context.Context, w io.Writer) error {
+			rendered = append(rendered, name)
+			io.WriteString(w, body)
+			return err
+		}}
+	}
+	out := filepath.Join(t.TempDir(), "out")
+	if err := WriteSet(context.Background(), out, []File{file("b.csv", "old b", nil), file("a.json", "old a", nil)}, nil); err != nil {
+		t.Fatal(err)
+	}
+	if len(rendered) != 2 || rendered[0] != "b.csv" {
+		t.Errorf("rendered %v, want b.csv then a.json, in the order given", rendered)
+	}
+	same := func(when string) {
+		t.Helper()
+		for name, want := range map[string]string{"a.json": "old a", "b.csv": "old b"} {
+			if got, err := os.ReadFile(filepath.Join(out, name)); err != nil || string(got) != want {
+				t.Errorf("%s: %s holds %q (%v), want %q", when, name, got, err, want)
+			}
+		}
+		if ents, _ := os.ReadDir(out); len(ents) != 2 {
+			t.Errorf("%s: %d entries in the output folder, want the old a.json and b.csv", when, len(ents))
+		}
+		if ents, _ := os.ReadDir(filepath.Dir(out)); len(ents) != 1 {
+			t.Errorf("%s: %d entries beside the output folder, want it alone", when, len(ents))
+		}
+	}
+
+	rendered = nil
+	err := WriteSet(context.Background(), out, []File{file("b.csv", "new b", nil)}, []string{filepath.Join(out, "b.csv")})
+	if !errors.Is(err, fileset.ErrOverwrite) || len(rendered) != 0 {
+		t.Errorf("an output over an input: error %v after rendering %v; want ErrOverwrite before any", err, rendered)
+	}
+	same("refused")
+
+	rendered = nil
+	broken := errors.New("renderer failed")
+	err = WriteSet(context.Background(), out, []File{file("b.csv", "new b", nil), file("a.json", "half", broken), file("c.txt", "new c", nil)}, nil)
+	if err != broken || len(rendered) != 2 {
+		t.Errorf("a failing renderer: error %v after rendering %v; want its error after b.csv and a.json", err, rendered)
+	}
+	same("failed")
+}
