@@ -142,6 +142,7 @@ func routesGeoJSON(ctx context.Context, r *route.Result) ([]byte, error) {
 			continue
 		}
 		tr := travelOf(r.Site.Net, l)
+		f := LegRoute(l)
 		props := map[string]any{
 			"link":         l.Link.ID,
 			"from":         l.Link.From,
@@ -164,7 +165,11 @@ func routesGeoJSON(ctx context.Context, r *route.Result) ([]byte, error) {
 			"to_entrance":   l.EntranceTo,
 			"crosses":       tr.crosses,
 			"turns":         tr.turns,
+			// The spans in the line's order: what `plan --start-from` starts a plan from
+			// (ReadStart).
+			"spans": spansOf(f.Steps),
 			// The lists again as plain text (ListText), for clients without list properties.
+			"spans_text":    ListText(spansOf(f.Steps)),
 			"pathways_text": ListText(tr.pathways),
 			"crosses_text":  ListText(tr.crosses),
 			"turns_text":    ListText(tr.turns),
@@ -178,7 +183,6 @@ func routesGeoJSON(ctx context.Context, r *route.Result) ([]byte, error) {
 			props["limit_db"] = round2(w.LimitDB)
 			props["margin_db"] = round2(w.MarginDB)
 		}
-		f := LegRoute(l)
 		f.Props = props
 		feats = append(feats, f)
 	}
@@ -355,6 +359,10 @@ type Summary struct {
 	Warnings      []string       `json:"warnings"`
 	// Notes say what of the plan's entries was left out, and why (route.Result.Notes).
 	Notes []string `json:"notes,omitempty"`
+	// StartedFrom names the plan folder whose routes the optimizer began from (route.Result
+	// .StartedFrom: `plan --start-from`, a sweep's base scenario); absent for a plan solved
+	// from scratch.
+	StartedFrom string `json:"started_from,omitempty"`
 }
 
 // CostDriver is one of the largest lines of the bill of materials.
@@ -378,7 +386,7 @@ func Summarize(r *route.Result) Summary {
 	s := Summary{Scenario: r.Plan.Name, Hub: r.Hub, Buildings: len(r.Site.Campus.Buildings),
 		Links: len(r.Links), Legs: len(r.Legs), Warnings: append([]string{}, r.Warnings...), Notes: r.Notes,
 		MediaMix: map[string]int{}, Currency: r.Currency, NewTrenchM: round1(newWorkM(r.Estimate)),
-		BudgetCents: int64(r.Plan.Budget)}
+		BudgetCents: int64(r.Plan.Budget), StartedFrom: r.StartedFrom}
 	if DemoPrices(r) {
 		s.DemoPrices = DemoPricesWarning
 	}
