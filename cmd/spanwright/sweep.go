@@ -33,6 +33,10 @@ func sweepCommand() *cli.Command {
 			"plan.gpkg and report.html) and the comparison to OUT/compare.csv, compare.xlsx, compare.md and\n" +
 			"compare.html (sortable table, cost-against-margin plot). `spanwright plan` on a\n" +
 			"scenario's plan.yaml writes its full set later.\n\n" +
+			"The first scenario is planned from scratch; every other one on the same campus starts\n" +
+			"the optimizer from its routes (summary.json's started_from names it), and\n" +
+			"`spanwright plan <scenario>/plan.yaml --start-from OUT/<first scenario>` reproduces it.\n" +
+			"--cold plans every scenario from scratch instead.\n\n" +
 			"With --shard i/n only the scenarios whose index mod n is i-1 are planned and their\n" +
 			"rows written to OUT/rows-i-of-n.jsonl; `spanwright merge` joins the shards.\n\n" +
 			exitHelp("sweep"),
