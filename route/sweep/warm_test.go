@@ -9,8 +9,8 @@ import (
 	"testing"
 )
 
-// TestWarmStartSameBytes: the warm-started sweep of the demo campus (two hubs, two rates,
-// two price books, new trench or not, two cases) gives the same bytes in every shard (the
+// TestWarmStartSameBytes: the warm-started sweep of the demo campus (two hubs, two rates, a
+// case with every link diverse, a failing case) gives the same bytes in every shard (the
 // shard without the base scenario plans the base too) and on --resume, which keeps every
 // folder; every scenario on the base's network but the base names it as started_from and
 // lists the base's routes.geojson in its inputs.sha256, which GNU sha256sum -c accepts in the
@@ -18,7 +18,7 @@ import (
 // scenario but the base (its inputs changed).
 func TestWarmStartSameBytes(t *testing.T) {
 	t.Parallel()
-	f := load(t, "sweep.yaml")
+	f := load(t, "small.yaml")
 	base := f.Scenarios()[0]
 	whole := t.TempDir()
 	run(t, f, Options{Out: whole, Jobs: 2})
