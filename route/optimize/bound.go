@@ -28,12 +28,27 @@ type planTree struct {
 	bad  int // proposed edges free now but charged in the tree
 	// pend lists (as indices into solver.proposed) the edges that became free while charged
 	// in the tree, since it was last brought up to date: a superset of the bad ones.
-	pend   []int32
-	loose  int // proposed edges free in the tree but charged now
-	round  int // solver.roundNo when built
-	anchor int
-	prof   int
+	pend []int32
+	// undo logs the changes freeUp made while phantom edges were held: the entries of the
+	// nodes it lowered, oldest first, and the edges it freed (see rollBack).
+	undo     []undoEntry
+	undoFree []int32
+	loose    int // proposed edges free in the tree but charged now
+	round    int // solver.roundNo when built
+	anchor   int
+	prof     int
 }
+
+// undoEntry is a node's tree entry before freeUp lowered it.
+type undoEntry struct {
+	v           int32
+	pred        int32
+	dist, lenMM int64
+}
+
+// maxPhantomUp is the most edges that freeUp lowers in a plan tree while phantom edges are
+// held; with more (the open start makes every proposed edge phantom), the plain tree serves.
+const maxPhantomUp = 64
 
 type keptTree struct {
 	t      *tree
@@ -141,25 +156,30 @@ func (sv *solver) recount() {
 }
 
 // bound returns the tightest valid lower-bound tree for (anchor, profile): the plan tree,
-// rebuilt if needed, or the plain tree while phantom edges make a rebuild short-lived, on
-// networks under planTreeNodes, and during the perturbation phase (kicks), whose plans
-// change wholesale at every kick: there a search costs less than rebuilding a tree.
+// brought up to date or rebuilt if needed, or the plain tree on networks under planTreeNodes
+// and while phantom edges would need a rebuild, which would be short-lived. While a move holds
+// phantom edges, a plan tree is brought up to date in place as for edges opened, but with
+// every change logged, and rolled back when the move is over (rollBack): the move's searches
+// run on the tight tree, and the tree does not stay loose after it.
 func (sv *solver) bound(anchor, prof int) bounder {
 	if sv.length || len(sv.proposed) == 0 || sv.plainBounds {
 		return bounder{t: sv.costTree(anchor, prof)}
 	}
 	k := sv.slot(anchor)*len(sv.profiles) + prof
 	pt := sv.planTrees[k]
+	if pt != nil && sv.nPhantom == 0 && len(pt.undoFree) > 0 {
+		sv.rollBack(pt)
+	}
 	if pt != nil && pt.bad == 0 && (pt.loose == 0 || pt.round == sv.roundNo || sv.nPhantom > 0) {
 		pt.pend = pt.pend[:0] // none of them is both free now and charged in the tree
 		return bounder{t: pt.t, pt: pt}
 	}
-	if sv.nPhantom > 0 {
-		return bounder{t: sv.costTree(anchor, prof)}
-	}
-	if pt != nil && pt.bad > 0 && (pt.loose == 0 || pt.round == sv.roundNo) {
+	if pt != nil && pt.bad > 0 && (pt.loose == 0 || pt.round == sv.roundNo) && (sv.nPhantom == 0 || pt.bad <= maxPhantomUp) {
 		sv.freeUp(pt)
 		return bounder{t: pt.t, pt: pt}
+	}
+	if sv.nPhantom > 0 {
+		return bounder{t: sv.costTree(anchor, prof)}
 	}
 	if pt == nil {
 		pt = &planTree{freeAt: make([]bool, len(sv.proposed)), anchor: anchor, prof: prof}
@@ -227,6 +247,7 @@ func (sv *solver) freeUp(pt *planTree) {
 		}
 		return b, true
 	}
+	logged := sv.nPhantom > 0
 	h := &sv.upHeap
 	h.reset()
 	// relax offers v the path through u by edge e.
@@ -240,6 +261,9 @@ func (sv *solver) freeUp(pt *planTree) {
 			return
 		}
 		if nd := du + we; t.dist[v] < 0 || nd < t.dist[v] {
+			if logged {
+				pt.undo = append(pt.undo, undoEntry{v: v, pred: t.pred[v], dist: t.dist[v], lenMM: t.lenMM[v]})
+			}
 			t.dist[v], t.lenMM[v], t.pred[v] = nd, t.lenMM[u]+net.lenMM[e], e
 			h.push(nd, v)
 		}
@@ -251,6 +275,9 @@ func (sv *solver) freeUp(pt *planTree) {
 		}
 		pt.freeAt[pi] = true
 		pt.hash ^= mix(uint64(e), 17)
+		if logged {
+			pt.undoFree = append(pt.undoFree, pi)
+		}
 		ed := &sv.p.Edges[e]
 		a, b := int32(ed.From), int32(ed.To)
 		relax(a, b, e)
@@ -271,4 +298,27 @@ func (sv *solver) freeUp(pt *planTree) {
 			relax(u, a.to, a.edge)
 		}
 	}
+}
+
+// rollBack undoes what freeUp changed in pt while phantom edges were held: the nodes' entries,
+// newest change first, and the edges it freed, which are charged in the tree again; the
+// counters follow (an edge free now is bad again and pending, one charged now no longer loose).
+func (sv *solver) rollBack(pt *planTree) {
+	t := pt.t
+	for i := len(pt.undo) - 1; i >= 0; i-- {
+		u := &pt.undo[i]
+		t.dist[u.v], t.lenMM[u.v], t.pred[u.v] = u.dist, u.lenMM, u.pred
+	}
+	for _, pi := range pt.undoFree {
+		e := sv.proposed[pi]
+		pt.freeAt[pi] = false
+		pt.hash ^= mix(uint64(e), 17)
+		if sv.freeNow(e) {
+			pt.bad++
+			pt.pend = append(pt.pend, pi)
+		} else {
+			pt.loose--
+		}
+	}
+	pt.undo, pt.undoFree = pt.undo[:0], pt.undoFree[:0]
 }

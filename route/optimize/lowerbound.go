@@ -1,6 +1,7 @@
 package optimize
 
 import (
+	"encoding/binary"
 	"math"
 	"slices"
 )
@@ -83,13 +84,41 @@ type dualBound struct {
 // legCost returns c_e^d, the cheapest of demand d's media on edge e (cable and labour cents),
 // or -1 when none may use it.
 func (sv *solver) legCost(d int, e int32) int64 {
-	c := int64(-1)
-	for _, pi := range sv.optProf[d] {
-		if w := sv.profCent[pi][e]; w >= 0 && (c < 0 || w < c) {
-			c = w
+	return sv.legMin[sv.legSet[d]][e]
+}
+
+// initLegCosts tabulates legCost: per distinct set of demands' cost profiles, the cheapest
+// of them on each edge (sv.legMin, indexed by sv.legSet per demand), so that the ascent's
+// inner loop reads one array.
+func (sv *solver) initLegCosts() {
+	nd, ne := len(sv.p.Demands), len(sv.p.Edges)
+	sv.legSet = make([]int32, nd)
+	sv.legMin = sv.legMin[:0]
+	seen := map[string]int32{}
+	var key []byte
+	for d := 0; d < nd; d++ {
+		key = key[:0]
+		for _, pi := range sv.optProf[d] {
+			key = binary.AppendUvarint(key, uint64(pi))
 		}
+		i, ok := seen[string(key)]
+		if !ok {
+			i = int32(len(sv.legMin))
+			seen[string(key)] = i
+			m := make([]int64, ne)
+			for e := range m {
+				c := int64(-1)
+				for _, pi := range sv.optProf[d] {
+					if w := sv.profCent[pi][e]; w >= 0 && (c < 0 || w < c) {
+						c = w
+					}
+				}
+				m[e] = c
+			}
+			sv.legMin = append(sv.legMin, m)
+		}
+		sv.legSet[d] = i
 	}
-	return c
 }
 
 // freeLevel returns the cheapest leg of demand d over its options with every proposed edge
@@ -111,6 +140,7 @@ func (sv *solver) ascend() *dualBound {
 	}
 	p := sv.p
 	ne, nd := len(p.Edges), len(p.Demands)
+	sv.initLegCosts()
 	db := &dualBound{level: make([]int64, nd), budget: make([]int64, ne), uses: make([][]dualUse, nd), onPath: make([][]int32, nd), wantBy: map[int32][]int32{}}
 	copy(db.budget, sv.fixedE)
 	if sv.chOn {
@@ -364,7 +394,7 @@ type dualSearch struct {
 	dist            []int64 // -1 when not reached
 	pred            []int32 // edge a node was reached by, -1 for the root
 	popped, touched []int32
-	h               minHeap[int64]
+	h               radixHeap // leaves in (key, item) order, as minHeap would
 	w               []int64
 	wl              []int32
 	wOn             []bool

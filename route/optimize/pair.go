@@ -45,6 +45,9 @@ func (sv *solver) pair(d, o int, mix bool) (legs [2][]Hop, weight int64, ok, too
 	if lt.dist[s] < 0 || lt.dist[s] > limit {
 		return legs, weight, false, false
 	}
+	if sv.noPair(d, sv.profLen[prof]) {
+		return legs, weight, false, false
+	}
 	w := sv.weightFor(d, o)
 	hc := treeH(sv.bound(t, prof).t)
 	try := func(wt func(e int32) (int64, bool), h heuristic[int64]) (ratio float64) {
@@ -94,6 +97,26 @@ func (sv *solver) pair(d, o int, mix bool) (legs [2][]Hop, weight int64, ok, too
 		return sv.net.lenMM[e], true
 	}, treeH(lt))
 	return legs, weight, ok, tooLong && !ok
+}
+
+// noPair reports whether demand d has no edge- and node-disjoint pair at all over the edges
+// open to exclusion class c, whatever their weights: the searches only ever take edges away
+// (forbidden, full ducts, blocked groups), so such a demand never gets a pair and its pair
+// searches, each of which explores all it can reach before failing, are skipped. Found with
+// one search per demand and class, on first asking.
+func (sv *solver) noPair(d, c int) bool {
+	if sv.pairless == nil {
+		sv.pairless = make([]uint8, len(sv.p.Demands)*len(sv.lenBase))
+	}
+	k := d*len(sv.lenBase) + c
+	if sv.pairless[k] == 0 {
+		base := sv.lenBase[c]
+		sv.pairless[k] = 1
+		if !disjointPair(sv.ps, sv.from[d], sv.to[d], func(e int32) (int64, bool) { return base[e], base[e] >= 0 }, nil).ok {
+			sv.pairless[k] = 2
+		}
+	}
+	return sv.pairless[k] == 2
 }
 
 // groupsOf returns the sorted distinct groups (> 0) of a leg.
@@ -158,6 +181,7 @@ func (sv *solver) groupPair(s, t int, wt func(e int32) (int64, bool), h heuristi
 	if !res.ok {
 		return [2][]Hop{}, false
 	}
+
 	if sv.sharedGroup(res.legs) == 0 {
 		return res.legs, true
 	}

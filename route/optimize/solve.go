@@ -110,6 +110,9 @@ type solver struct {
 	planTrees   []*planTree    // slot × profiles + profile
 	planList    []*planTree    // planTrees in creation order
 	upHeap      minHeap[int64] // freeUp's scratch
+	pairless    []uint8        // demand × exclusion class → 0 not known, 1 a pair may exist, 2 none can (noPair)
+	legSet      []int32        // demand → index into legMin (initLegCosts)
+	legMin      [][]int64      // set of cost profiles → edge → cheapest cents, -1 when none may use it
 	freeUps     int            // plan trees brought up to date in place (for the tests)
 	anchorSlot  []int32        // node → slot of the trees rooted there, -1 when none yet
 	nSlots      int

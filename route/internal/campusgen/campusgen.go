@@ -51,6 +51,12 @@ type Options struct {
 	// buildings, as a campus whose duct network was built ahead of its buildings. Zero keeps
 	// the default grid of about one street per building (about 2 pathways per building).
 	PathwaysPerBuilding float64
+
+	// DiverseEntrances draws second laterals as diverse entrances are built: from the nearest
+	// vertex of another street (another trench, so that a diverse route can exist: from the
+	// same street both entrances would share its trench), and one into every cross-connect
+	// that drew none. False keeps the default campuses as they were drawn.
+	DiverseEntrances bool
 }
 
 const (
@@ -190,6 +196,39 @@ func Generate(seed uint64, opt Options) *Campus {
 	// Buildings beside streets, each joined at an interior vertex of its street.
 	order := r.Perm(len(streets))
 	var placedAt []int // feature index of each building
+	// Per building placed: its street's vertices, the vertex its lateral leaves from, its
+	// centre and half size, and whether it has a second lateral (DiverseEntrances).
+	type entry struct {
+		pts      [][2]float64
+		p        [2]float64
+		cx, cy   float64
+		half     float64
+		first    bool // a lateral drawn (else a counted one)
+		second   bool
+		building string
+		street   int
+	}
+	// secondFrom is the street vertex a second lateral into building en leaves from, q as
+	// drawn by default; with DiverseEntrances the nearest vertex of another unbroken street
+	// within 150 m of the building's centre, if any.
+	secondFrom := func(en entry, q [2]float64) [2]float64 {
+		if !opt.DiverseEntrances {
+			return q
+		}
+		best := 150.0
+		for k, st := range streets {
+			if k == en.street || st.broken {
+				continue
+			}
+			for _, v := range st.pts {
+				if d := math.Hypot(v[0]-en.cx, v[1]-en.cy); d < best {
+					q, best = v, d
+				}
+			}
+		}
+		return q
+	}
+	var entries []entry
 	type placed struct{ cx, cy, half float64 }
 	var done []placed
 	// The street segments and the buildings placed, bucketed by cell of the grid, so that a
@@ -265,6 +304,7 @@ func Generate(seed uint64, opt Options) *Campus {
 		props := []Prop{{"kind", "building"}, {"id", id}, {"name", "Hall " + strconv.Itoa(b)},
 			{"riser_m", math.Round(400*r.Float64()) / 10}}
 		placedAt = append(placedAt, len(c.Features))
+		entries = append(entries, entry{pts: s.pts, p: p, cx: cx, cy: cy, half: half, building: id, street: si})
 		add(Feature{Geometry: "Polygon", Coords: [][][2]float64{{ll(cx-half, cy-half), ll(cx+half, cy-half),
 			ll(cx+half, cy+half), ll(cx-half, cy+half), ll(cx-half, cy-half)}}, Props: props})
 		// The lateral, drawn as a pathway from the street vertex to the footprint's edge; a
@@ -272,15 +312,18 @@ func Generate(seed uint64, opt Options) *Campus {
 		if off > 20 || r.Float64() < 0.7 {
 			add(lineFeature([][2]float64{p, {p[0] + dx*off, p[1] + dy*off}}, []Prop{{"kind", "pathway"},
 				{"id", id + "-L"}, {"spare_ducts", r.IntN(3)}}))
+			entries[len(entries)-1].first = true
 			// Drawn from a stream of their own, so that every feature above is the same for a
 			// seed as before they were added: a second lateral from another vertex of the street
 			// into the footprint (a building with two entrances), and a building that routes
 			// may cross (transit: true).
 			if q := s.pts[1+r2.IntN(len(s.pts)-2)]; q != p && r2.Float64() < 0.15 {
+				q = secondFrom(entries[len(entries)-1], q)
 				ux, uy := q[0]-cx, q[1]-cy
 				l := math.Hypot(ux, uy)
 				e := [2]float64{cx + 0.6*half*ux/l, cy + 0.6*half*uy/l}
 				add(lineFeature([][2]float64{q, e}, []Prop{{"kind", "pathway"}, {"id", id + "-L2"}, {"spare_ducts", r2.IntN(3)}}))
+				entries[len(entries)-1].second = true
 			}
 			if r2.Float64() < 0.05 {
 				c.Features[placedAt[len(placedAt)-1]].Props = append(c.Features[placedAt[len(placedAt)-1]].Props, Prop{"transit", true})
@@ -298,6 +341,32 @@ func Generate(seed uint64, opt Options) *Campus {
 			continue
 		}
 		f.Props = append(f.Props, Prop{"role", "ic"})
+	}
+	if opt.DiverseEntrances {
+		// A second lateral into each cross-connect that has none (drawn last, from the second
+		// stream, so the rest of the campus is as without it).
+		toward := func(en entry, q [2]float64) [2]float64 { // a point inside the footprint
+			ux, uy := q[0]-en.cx, q[1]-en.cy
+			l := math.Hypot(ux, uy)
+			return [2]float64{en.cx + 0.6*en.half*ux/l, en.cy + 0.6*en.half*uy/l}
+		}
+		for _, bi := range roles[:min(3, len(roles))] {
+			en := entries[bi]
+			if !en.first { // reached by a counted lateral only: draw it
+				add(lineFeature([][2]float64{en.p, toward(en, en.p)}, []Prop{{"kind", "pathway"}, {"id", en.building + "-L"}, {"spare_ducts", 1 + r2.IntN(2)}}))
+			}
+			if en.second {
+				continue
+			}
+			q, far := en.p, -1.0
+			for _, v := range en.pts {
+				if d := math.Hypot(v[0]-en.p[0], v[1]-en.p[1]); d > far {
+					q, far = v, d
+				}
+			}
+			q = secondFrom(en, q)
+			add(lineFeature([][2]float64{q, toward(en, q)}, []Prop{{"kind", "pathway"}, {"id", en.building + "-L2"}, {"spare_ducts", 1 + r2.IntN(2)}}))
+		}
 	}
 	return c
 }
@@ -440,9 +509,10 @@ func (s Stats) String() string {
 
 // BenchOptions are the options of the campuses the benchmarks time: n buildings, about 4.5
 // pathway features per building, 25 % of the street pathways proposed (with the diagonals,
-// about a fifth of all pathways).
+// about a fifth of all pathways), and second entrances from another street, every
+// cross-connect with one.
 func BenchOptions(n int) Options {
-	return Options{Buildings: n, PathwaysPerBuilding: 4.5, ProposedPct: 25}
+	return Options{Buildings: n, PathwaysPerBuilding: 4.5, ProposedPct: 25, DiverseEntrances: true}
 }
 
 // PlanYAML is a plan for the campus in the given files: every building linked to its nearest

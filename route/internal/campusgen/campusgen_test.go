@@ -3,6 +3,7 @@ package campusgen
 import (
 	"crypto/sha256"
 	"fmt"
+	"slices"
 	"strings"
 	"testing"
 )
@@ -64,6 +65,15 @@ func TestBenchCampus(t *testing.T) {
 	}
 	if broken == 0 {
 		t.Errorf("no broken runs")
+	}
+	// Every cross-connect has two entrances (common practice, no published source).
+	for _, f := range c.Features {
+		if f.Props[0].Value != "building" || !slices.ContainsFunc(f.Props, func(p Prop) bool { return p.Key == "role" }) {
+			continue
+		}
+		if id := f.Props[1].Value.(string); !slices.Contains(c.IDs, id+"-L2") {
+			t.Errorf("cross-connect %s has one entrance; want two", id)
+		}
 	}
 	plan := c.PlanYAML([]string{"campus.geojson"}, 4)
 	if !strings.Contains(plan, "hub: "+c.Hub) || !strings.Contains(plan, "redundancy: diverse}") {
