@@ -185,6 +185,9 @@ func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
 		return nil, err
 	}
 	if err := r.planBase(ctx); err != nil {
+		if ctx.Err() != nil && errors.Is(err, ctx.Err()) {
+			return nil, fmt.Errorf("sweep stopped while planning the base scenario, before any scenario was written: %w", err)
+		}
 		return nil, err
 	}
 	rows, err := r.runAll(ctx, mine)
