@@ -70,20 +70,35 @@ func ParseStart(name string, data []byte) (*routing.Start, error) {
 		fail(-1, "", "", input.Errorf(input.ErrWrongType, "want the routes.geojson of a spanwright plan folder (a GeoJSON FeatureCollection)"))
 		return nil, errs.Err()
 	}
-	st := &routing.Start{}
-	seen := map[[2]string]int{}
+	props := make([]map[string]json.RawMessage, len(fc.Features))
+	noSpans := 0
 	for i, raw := range fc.Features {
 		var f struct {
 			Properties map[string]json.RawMessage `json:"properties"`
 		}
-		if err := json.Unmarshal(raw, &f); err != nil || f.Properties == nil {
+		if json.Unmarshal(raw, &f) == nil {
+			props[i] = f.Properties
+		}
+		if _, has := props[i]["spans"]; props[i] != nil && !has {
+			noSpans++
+		}
+	}
+	if noSpans > 1 && noSpans == len(fc.Features) {
+		fail(-1, "", "", input.Errorf(input.ErrMissingKey, "no feature has the property \"spans\" (the leg's span IDs): a routes.geojson written by an older spanwright; plan it again"))
+		return nil, errs.Err()
+	}
+	st := &routing.Start{}
+	seen := map[[2]string]int{}
+	for i := range fc.Features {
+		pr := props[i]
+		if pr == nil {
 			fail(i, "", "properties", input.Errorf(input.ErrWrongType, "want a feature with properties"))
 			continue
 		}
 		var l routing.StartLeg
 		ok := true
 		text := func(key string, dst *string) {
-			v, has := f.Properties[key]
+			v, has := pr[key]
 			switch {
 			case !has:
 				fail(i, "", key, input.Errorf(input.ErrMissingKey, "missing; want the leg's %s", key))
@@ -100,7 +115,7 @@ func ParseStart(name string, data []byte) (*routing.Start, error) {
 			fail(i, "", "leg", input.Errorf(input.ErrBadValue, "want %q or %q, got %q", routing.LegPrimary, routing.LegDiverse, l.Leg))
 			ok = false
 		}
-		if v, has := f.Properties["spans"]; !has {
+		if v, has := pr["spans"]; !has {
 			fail(i, "", "spans", input.Errorf(input.ErrMissingKey, "missing; want the leg's span IDs (a routes.geojson written by an older spanwright has none: plan it again)"))
 			ok = false
 		} else if json.Unmarshal(v, &l.Spans) != nil || l.Spans == nil || hasEmpty(l.Spans) {

@@ -87,6 +87,10 @@ func TestParseStartProblems(t *testing.T) {
 			`r.geojson: feature #4 (no id): property "spans": want a list of span IDs, got ["S-1",""]`,
 			`r.geojson: feature #5 (no id): property "properties": want a feature with properties`,
 		}},
+		{"written before spans", `{"type":"FeatureCollection","features":[
+{"type":"Feature","properties":{"link":"A-B","leg":"primary","medium":"os2"}},
+{"type":"Feature","properties":{"link":"A-C","leg":"primary","medium":"os2"}}]}`,
+			[]string{`r.geojson: no feature has the property "spans" (the leg's span IDs): a routes.geojson written by an older spanwright; plan it again`}},
 		{"leg name", `{"type":"FeatureCollection","features":[{"type":"Feature","properties":{"link":"A-B","leg":"sideways","medium":"os2","spans":[]}}]}`,
 			[]string{`feature #0 (no id): property "leg": want "primary" or "diverse", got "sideways"`}},
 	} {
