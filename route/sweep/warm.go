@@ -51,9 +51,14 @@ func (r *runner) planBase(ctx context.Context) error {
 		return nil // no start: every scenario plans from scratch, as the base's row says why
 	}
 	dir := filepath.Join(r.out, sc.ID)
+	path := filepath.Join(dir, output.RoutesFile)
 	var routes []byte
+	var st *routing.Start
 	if out.skipped {
-		routes, err = input.ReadFile(filepath.Join(dir, output.RoutesFile), input.Cap(r.f.MaxInputBytes, input.DefaultDataMiB))
+		routes, err = input.ReadFile(path, input.Cap(r.f.MaxInputBytes, input.DefaultDataMiB))
+		if err == nil {
+			st, err = output.ParseStart(path, routes)
+		}
 		if err != nil {
 			// Its folder is not whole after all: plan it (and write it, when it is this run's).
 			if out, err = r.scenario(ctx, sc, false); err != nil {
@@ -65,18 +70,18 @@ func (r *runner) planBase(ctx context.Context) error {
 			if out.row.Status == StatusFailed {
 				return nil
 			}
+			routes, st = nil, nil
 		}
 	}
-	if routes == nil {
+	if st == nil {
 		for _, o := range out.files {
 			if o.Name == output.RoutesFile {
 				routes = o.Data
 			}
 		}
-	}
-	st, err := output.ParseStart(filepath.Join(dir, output.RoutesFile), routes)
-	if err != nil {
-		return fmt.Errorf("sweep: base scenario %s: its own routes: %w", sc.ID, err) // a bug: the writer and the reader disagree
+		if st, err = output.ParseStart(path, routes); err != nil {
+			return fmt.Errorf("sweep: base scenario %s: its own routes: %w", sc.ID, err) // a bug: the writer and the reader disagree
+		}
 	}
 	st.From = sc.ID
 	planData, err := r.planYAML(sc)

@@ -3,6 +3,7 @@ package sweep
 import (
 	"bytes"
 	"encoding/json"
+	"os"
 	"os/exec"
 	"path/filepath"
 	"strings"
@@ -50,6 +51,15 @@ func TestWarmStartSameBytes(t *testing.T) {
 		t.Errorf("resume: %d of %d kept (%d failed), want every planned one", rep.Skipped, rep.Run, rep.Failed)
 	}
 	sameTree(t, "resumed", all, tree(t, whole))
+	// A kept base folder whose routes.geojson does not read is planned again, to the same bytes.
+	if err := os.WriteFile(filepath.Join(whole, base.ID, "routes.geojson"), []byte("{"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	rep = run(t, f, Options{Out: whole, Jobs: 2, Resume: true})
+	if rep.Skipped != rep.Run-rep.Failed-1 {
+		t.Errorf("resume with a broken base: %d of %d kept (%d failed), want all but the base", rep.Skipped, rep.Run, rep.Failed)
+	}
+	sameTree(t, "resumed with a broken base", all, tree(t, whole))
 
 	started := 0
 	for _, sc := range f.Scenarios() {
