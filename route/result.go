@@ -10,6 +10,7 @@ import (
 	"spanwright/route/plan"
 	"spanwright/route/routing"
 	"spanwright/route/site"
+	"strings"
 )
 
 // Result is a planned scenario: its links, their legs, and what was noticed on the way.
@@ -43,6 +44,10 @@ type Result struct {
 
 	// Estimate is the installation takeoff and priced bill of materials (see Estimate).
 	Estimate *estimate.Estimate
+
+	// StartedFrom names where the optimizer's search began (routing.Start.From: an earlier
+	// plan's folder, a sweep's base scenario); "" for a plan solved from scratch.
+	StartedFrom string
 }
 
 // ErrInfeasible is returned, wrapped in an *InfeasibleError, when a plan finished but some
@@ -88,6 +93,14 @@ func Solve(ctx context.Context, s *site.Site, p *plan.Plan) (*Result, error) {
 // done, the optimizer, the media choice and the estimate stop within a step and SolveWith
 // returns ctx's error and no result.
 func SolveWith(ctx context.Context, s *site.Site, p *plan.Plan, eng *media.Engine) (*Result, error) {
+	return SolveFrom(ctx, s, p, eng, nil)
+}
+
+// SolveFrom is SolveWith with the optimizer's search begun from an earlier plan's routes
+// (routing.SolveFrom); nil start is SolveWith. The result records where it started
+// (StartedFrom) and, in a note, the links whose earlier routes no longer fit and were placed
+// afresh.
+func SolveFrom(ctx context.Context, s *site.Site, p *plan.Plan, eng *media.Engine, start *routing.Start) (*Result, error) {
 	pr, err := prepare(s, p, eng)
 	if err != nil {
 		return nil, err
@@ -96,12 +109,18 @@ func SolveWith(ctx context.Context, s *site.Site, p *plan.Plan, eng *media.Engin
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
-	rt, err := routing.Solve(ctx, s, pr.model, links)
+	rt, err := routing.SolveFrom(ctx, s, pr.model, links, start)
 	if err != nil {
 		return nil, err
 	}
+	if start != nil {
+		pr.notes = append(pr.notes, startNote(start, rt.StartUnused)...)
+	}
 	r := &Result{Plan: p, Site: s, Hub: hub, Links: links, Legs: rt.Legs, Currency: eng.PriceBook().Currency, Engine: eng,
 		Opened: rt.Opened, Handholes: rt.Handholes, Fill: rt.Fill, ObjectiveCents: rt.ObjectiveCents, LowerBoundCents: rt.LowerBoundCents, Notes: pr.notes}
+	if start != nil {
+		r.StartedFrom = start.From
+	}
 	for _, w := range s.Net.Warnings {
 		r.Warnings = append(r.Warnings, w.File+": "+w.Feature+": "+w.Message)
 	}
@@ -188,4 +207,24 @@ func (r *Result) cutOff(buildings []string) {
 			l.Reason, l.Choice, l.Rejected = why, "", nil
 		}
 	}
+}
+
+// startNoteLinks is how many links a start note names before it counts the rest.
+const startNoteLinks = 10
+
+// startNote is the note on the links whose start routes were placed afresh (none when every
+// route fitted).
+func startNote(start *routing.Start, unused []string) []string {
+	if len(unused) == 0 {
+		return nil
+	}
+	names := strings.Join(unused[:min(len(unused), startNoteLinks)], ", ")
+	if more := len(unused) - startNoteLinks; more > 0 {
+		names += fmt.Sprintf(" and %d more", more)
+	}
+	what := fmt.Sprintf("%d links' routes there no longer fit this plan and were", len(unused))
+	if len(unused) == 1 {
+		what = "1 link's route there no longer fits this plan and was"
+	}
+	return []string{fmt.Sprintf("started from the routes of %s: %s placed afresh: %s", start.From, what, names)}
 }

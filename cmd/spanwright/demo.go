@@ -34,7 +34,7 @@ func demoCommand() *cli.Command {
 				return err
 			}
 			fmt.Fprintln(c.App.Writer, "demo campus: invented for demonstration; names, places and prices are not real")
-			return runPlan(c.Context, spanwright.Demo, p, c.Path("out"), opt, c.App.Writer)
+			return runPlan(c.Context, spanwright.Demo, p, c.Path("out"), planRun{write: opt}, c.App.Writer)
 		},
 	}
 }

@@ -15,6 +15,7 @@ import (
 	"spanwright/route/output"
 	"spanwright/route/plan"
 	"spanwright/route/report"
+	"spanwright/route/routing"
 	"spanwright/route/site"
 )
 
@@ -32,6 +33,7 @@ func planCommand() *cli.Command {
 			&cli.PathFlag{Name: "prices", Usage: "price book YAML, instead of the plan's prices: or the embedded demo book", TakesFile: true},
 			maxInputFlag,
 			campusDBFlag,
+			&cli.PathFlag{Name: "start-from", Usage: "begin the optimizer's search from the routes of an earlier plan's output `folder` (its routes.geojson); the result records it as started_from", TakesFile: true},
 		},
 		Action: func(c *cli.Context) error {
 			opt, err := writeOptions(c)
@@ -50,15 +52,35 @@ func planCommand() *cli.Command {
 				return err
 			}
 			overrideFiles(p, c.Path("catalog"), c.Path("rules"), c.Path("prices"))
-			return runPlan(c.Context, nil, p, c.Path("out"), opt, c.App.Writer)
+			var start *routing.Start
+			if dir := c.Path("start-from"); dir != "" {
+				if start, err = output.ReadStart(dir, maxBytes); err != nil {
+					return invalid{fmt.Errorf("--start-from: %w", err)}
+				}
+			}
+			run := planRun{write: opt, start: start}
+			if start != nil {
+				run.startFile = filepath.Join(c.Path("start-from"), output.RoutesFile)
+			}
+			return runPlan(c.Context, nil, p, c.Path("out"), run, c.App.Writer)
 		},
 	}
+}
+
+// planRun says how runPlan plans and writes.
+type planRun struct {
+	write output.WriteOptions
+	// start, when not nil, is where the optimizer's search begins (--start-from), read from
+	// startFile, which the outputs must not replace.
+	start     *routing.Start
+	startFile string
 }
 
 // runPlan plans p (its campus read from fsys when not nil) and writes the outputs to out.
 // When ctx is done before the outputs are renamed into place, it writes nothing and returns
 // an error wrapping ctx's.
-func runPlan(ctx context.Context, fsys fs.FS, p *plan.Plan, out string, opt output.WriteOptions, w io.Writer) (err error) {
+func runPlan(ctx context.Context, fsys fs.FS, p *plan.Plan, out string, run planRun, w io.Writer) (err error) {
+	opt := run.write
 	defer func() {
 		if err != nil && ctx.Err() != nil && errors.Is(err, ctx.Err()) {
 			err = fmt.Errorf("stopped, nothing written: %w", err)
@@ -69,13 +91,21 @@ func runPlan(ctx context.Context, fsys fs.FS, p *plan.Plan, out string, opt outp
 		return err
 	}
 	stage(ctx, "loaded")
-	res, err := route.Solve(ctx, site, p)
+	eng, err := plan.Engine(p)
+	if err != nil {
+		return err
+	}
+	res, err := route.SolveFrom(ctx, site, p, eng, run.start)
 	if err != nil {
 		return err
 	}
 	stage(ctx, "planned")
 	files := append(output.Outputs(res, opt), report.Output(res, report.Options{Units: opt.Units}))
-	if err := output.WriteSet(ctx, out, files, res.Inputs()); err != nil {
+	inputs := res.Inputs()
+	if run.startFile != "" {
+		inputs = append(inputs, run.startFile)
+	}
+	if err := output.WriteSet(ctx, out, files, inputs); err != nil {
 		return err
 	}
 	if err := output.PrintSummary(w, res, opt); err != nil {

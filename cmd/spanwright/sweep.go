@@ -33,6 +33,10 @@ func sweepCommand() *cli.Command {
 			"plan.gpkg and report.html) and the comparison to OUT/compare.csv, compare.xlsx, compare.md and\n" +
 			"compare.html (sortable table, cost-against-margin plot). `spanwright plan` on a\n" +
 			"scenario's plan.yaml writes its full set later.\n\n" +
+			"The first scenario is planned from scratch; every other one on the same campus starts\n" +
+			"the optimizer from its routes (summary.json's started_from names it), and\n" +
+			"`spanwright plan <scenario>/plan.yaml --start-from OUT/<first scenario>` reproduces it.\n" +
+			"--cold plans every scenario from scratch instead.\n\n" +
 			"With --shard i/n only the scenarios whose index mod n is i-1 are planned and their\n" +
 			"rows written to OUT/rows-i-of-n.jsonl; `spanwright merge` joins the shards.\n\n" +
 			exitHelp("sweep"),
@@ -44,6 +48,7 @@ func sweepCommand() *cli.Command {
 			&cli.StringFlag{Name: "shard", Usage: "plan part `i/n` of the sweep only: the scenarios whose index mod n is i-1"},
 			&cli.BoolFlag{Name: "quiet", Usage: "print no progress on stderr"},
 			&cli.BoolFlag{Name: "full", Usage: "also write bom.xlsx, plan.gpkg and report.html in every scenario folder (slower)"},
+			&cli.BoolFlag{Name: "cold", Usage: "plan every scenario from scratch, as `spanwright plan` plans it alone, instead of starting from the first scenario's routes"},
 			unitsFlag,
 			maxInputFlag,
 			campusDBFlag,
@@ -68,6 +73,7 @@ type sweepOptions struct {
 	resume bool
 	quiet  bool
 	full   bool
+	cold   bool // no warm start (sweep.Options.Cold)
 	shard  sweep.Shard
 	write  output.WriteOptions
 	// maxBytes caps every input file, in bytes; 0 for the defaults
@@ -88,7 +94,7 @@ func sweepOpts(c *cli.Context) (sweepOptions, error) {
 		return sweepOptions{}, usageError{fmt.Errorf("--jobs: want at least 1, got %d", c.Int("jobs"))}
 	}
 	o := sweepOptions{file: c.Args().First(), out: c.Path("out"), jobs: c.Int("jobs"),
-		resume: c.Bool("resume"), quiet: c.Bool("quiet"), full: c.Bool("full"), write: w, campusDB: c.String(campusDBFlag.Name)}
+		resume: c.Bool("resume"), quiet: c.Bool("quiet"), full: c.Bool("full"), cold: c.Bool("cold"), write: w, campusDB: c.String(campusDBFlag.Name)}
 	o.write.SkipWorkbook = !o.full
 	o.write.SkipGeoPackage = !o.full
 	if o.maxBytes, err = maxInputBytes(c); err != nil {
@@ -114,7 +120,7 @@ func runSweep(ctx context.Context, o sweepOptions, stdout, stderr io.Writer) err
 	}
 	prog := newProgress(stderr, o.quiet)
 	so := sweep.Options{Out: o.out, Jobs: o.jobs, Resume: o.resume, Shard: o.shard, Write: o.write, Progress: prog.update,
-		Compare: report.SweepFiles(report.SweepOptions{}), CampusDatabase: o.campusDB}
+		Compare: report.SweepFiles(report.SweepOptions{}), CampusDatabase: o.campusDB, Cold: o.cold}
 	if o.full {
 		so.Extra = report.Extra(report.Options{Units: o.write.Units})
 	}

@@ -160,3 +160,80 @@ func TestSweepFull(t *testing.T) {
 		}
 	}
 }
+
+// TestSweepScenarioReproducedByPlan: every scenario of a warm-started sweep (with --full:
+// every file) is, byte for byte, what `plan --start-from <base scenario folder>` writes from
+// its plan.yaml, and the base's what `plan` writes alone; every scenario of a --cold sweep is
+// what `plan` writes alone. The project's rule (same inputs, same bytes) and the README's
+// promise that a scenario can be reproduced alone.
+func TestSweepScenarioReproducedByPlan(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	base, err := filepath.Abs("../../testdata/demo/plan.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	low, _ := filepath.Abs(filepath.Join(sweepFixtures, "prices-low.yaml"))
+	high, _ := filepath.Abs(filepath.Join(sweepFixtures, "prices-high.yaml"))
+	sweepFile := filepath.Join(dir, "prices.yaml")
+	body := "base: " + base + "\nvary:\n  prices: [" + low + ", " + high + "]\n  design.allow_new_trench: [true, false]\n" +
+		"cases:\n  - {name: all-diverse, defaults.redundancy: diverse, prices: " + high + "}\n"
+	if err := os.WriteFile(sweepFile, []byte(body), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	for _, mode := range []string{"warm", "cold"} {
+		out := filepath.Join(dir, mode)
+		args := []string{"sweep", sweepFile, "--out", out, "--quiet", "--full"}
+		if mode == "cold" {
+			args = append(args, "--cold")
+		}
+		if _, msg, code := run(t, args...); code != exitOK && code != exitInfeasible {
+			t.Fatalf("%s sweep: status %d: %s", mode, code, msg)
+		}
+		ents, err := os.ReadDir(out)
+		if err != nil {
+			t.Fatal(err)
+		}
+		var scenarios []string
+		first := ""
+		for _, e := range ents {
+			if !e.IsDir() {
+				continue
+			}
+			scenarios = append(scenarios, e.Name())
+			if strings.HasPrefix(e.Name(), "prices-low-allow_new_trench-") { // scenario 0: the first value of each axis
+				first = e.Name()
+			}
+		}
+		if len(scenarios) != 5 || first == "" {
+			t.Fatalf("%s: scenario folders %v, base %q", mode, scenarios, first)
+		}
+		started := 0
+		for _, sc := range scenarios {
+			args := []string{"plan", filepath.Join(out, sc, "plan.yaml"), "--out", filepath.Join(dir, mode+"-plan-"+sc)}
+			summary, _ := os.ReadFile(filepath.Join(out, sc, "summary.json"))
+			if mode == "warm" && sc != first {
+				if !bytes.Contains(summary, []byte(`"started_from": "`+first+`"`)) {
+					t.Errorf("warm %s: summary.json does not name the base %s as its start", sc, first)
+				}
+				args = append(args, "--start-from", filepath.Join(out, first))
+				started++
+			} else if bytes.Contains(summary, []byte(`"started_from"`)) {
+				t.Errorf("%s %s: summary.json names a start", mode, sc)
+			}
+			if _, msg, code := run(t, args...); code != exitOK && code != exitInfeasible {
+				t.Fatalf("%s: status %d: %s", strings.Join(args, " "), code, msg)
+			}
+			for _, name := range []string{"routes.geojson", "links.csv", "summary.json", "bom.csv", "bom.xlsx", "plan.gpkg", "report.html"} {
+				a, err1 := os.ReadFile(filepath.Join(out, sc, name))
+				b, err2 := os.ReadFile(filepath.Join(dir, mode+"-plan-"+sc, name))
+				if err1 != nil || err2 != nil || !bytes.Equal(a, b) {
+					t.Errorf("%s sweep %s: %s differs from plan's (%v, %v)", mode, sc, name, err1, err2)
+				}
+			}
+		}
+		if mode == "warm" && started != 4 {
+			t.Errorf("%d warm scenarios checked, want 4", started)
+		}
+	}
+}

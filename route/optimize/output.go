@@ -9,7 +9,7 @@ import (
 func (sv *solver) solution() *Solution {
 	sv.flush()
 	p, st := sv.p, sv.st
-	sol := &Solution{Routes: make([]Route, len(p.Demands)), Rounds: sv.rounds, LowerBoundCents: sv.planBound()}
+	sol := &Solution{Routes: make([]Route, len(p.Demands)), Rounds: sv.rounds, LowerBoundCents: sv.planBound(), StartUnused: sv.startUnused}
 	for d := range p.Demands {
 		dm := &p.Demands[d]
 		r := &sol.Routes[d]

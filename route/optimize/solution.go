@@ -155,4 +155,8 @@ type Solution struct {
 	// problem); TotalCents − LowerBoundCents bounds what a better plan could save. It is -1 for
 	// the length objective, which computes no bound.
 	LowerBoundCents int64
+	// StartUnused lists, ascending, the demands whose route in Settings.Start did not fit the
+	// problem (see Settings.Start) and were placed afresh; a start route with Option -1 is
+	// not listed. Nil without a start.
+	StartUnused []int
 }

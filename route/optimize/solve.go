@@ -209,6 +209,8 @@ type solver struct {
 	joinQueue []int32
 	// warm is Settings.Start, the warm start (startWarm).
 	warm []StartRoute
+	// startUnused are the demands whose start route did not fit (Solution.StartUnused).
+	startUnused []int
 	// dual is the lower bound's ascent (lowerbound.go), nil for the length objective.
 	dual *dualBound
 }

@@ -1,5 +1,7 @@
 package optimize
 
+import "slices"
+
 // Warm starts (Settings.Start): the search begins from the routes of an earlier solution
 // instead of routing the demands one by one.
 
@@ -17,6 +19,9 @@ func (sv *solver) startWarm() {
 			sv.add(d, c)
 		} else {
 			later = append(later, d)
+			if d >= len(sv.warm) || sv.warm[d].Option >= 0 {
+				sv.startUnused = append(sv.startUnused, d)
+			}
 		}
 	}
 	for _, d := range later {
@@ -43,9 +48,9 @@ func (sv *solver) warmChoice(d int) (choice, bool) {
 	o := r.Option
 	base, cents := sv.profBase[sv.optProf[d][o]], sv.profCent[sv.optProf[d][o]]
 	c := choice{opt: o}
-	var edges, groups []int
-	var inner []int
-	for _, leg := range r.Legs {
+	var edges, inner []int
+	var groups [2][]int // per leg: one leg may pass several edges of one group, two legs may not share one
+	for l, leg := range r.Legs {
 		hops := leg
 		if sv.from[d] != dm.Source {
 			hops = reverseHops(leg)
@@ -75,8 +80,8 @@ func (sv *solver) warmChoice(d int) (choice, bool) {
 			c.varCost += cents[e]
 			mm += sv.net.lenMM[e]
 			edges = append(edges, e)
-			if ed.Group > 0 {
-				groups = append(groups, ed.Group)
+			if ed.Group > 0 && !slices.Contains(groups[l], ed.Group) {
+				groups[l] = append(groups[l], ed.Group)
 			}
 		}
 		if v != sv.to[d] || len(hops) == 0 || mm > sv.reach[d][o] {
@@ -85,7 +90,7 @@ func (sv *solver) warmChoice(d int) (choice, bool) {
 		c.lenMM += mm
 		c.legs = append(c.legs, hops)
 	}
-	if hasDup(edges) || hasDup(inner) || (len(c.legs) == 2 && hasDup(groups)) {
+	if hasDup(edges) || hasDup(inner) || (len(c.legs) == 2 && hasDup(append(groups[0], groups[1]...))) {
 		return choice{}, false
 	}
 	return c, true

@@ -67,4 +67,16 @@ func TestWarmStart(t *testing.T) {
 		t.Fatal(err)
 	}
 	verify(t, "broken start", base, got)
+	// Reported demand by demand (Solution.StartUnused): the three broken ones, and the third
+	// only when its leg had a hop to drop; none when the start is whole.
+	want := []int{0, 1}
+	if len(bad[2].Legs) > 0 && bad[2].Option >= 0 {
+		want = append(want, 2)
+	}
+	if fmt.Sprint(got.StartUnused) != fmt.Sprint(want) {
+		t.Errorf("start routes reported unused: %v, want %v", got.StartUnused, want)
+	}
+	if own.StartUnused != nil {
+		t.Errorf("its own plan as the start: %v reported unused, want none", own.StartUnused)
+	}
 }

@@ -178,6 +178,7 @@ func routesGeoJSON(ctx context.Context, w io.Writer, r *route.Result) error {
 func routeFeature(r *route.Result, l *routing.Leg) geo.RouteFeature {
 	{
 		tr := travelOf(r.Site.Net, l)
+		f := LegRoute(l)
 		props := map[string]any{
 			"link":         l.Link.ID,
 			"from":         l.Link.From,
@@ -200,7 +201,11 @@ func routeFeature(r *route.Result, l *routing.Leg) geo.RouteFeature {
 			"to_entrance":   l.EntranceTo,
 			"crosses":       tr.crosses,
 			"turns":         tr.turns,
+			// The spans in the line's order: what `plan --start-from` starts a plan from
+			// (ReadStart).
+			"spans": spansOf(f.Steps),
 			// The lists again as plain text (ListText), for clients without list properties.
+			"spans_text":    ListText(spansOf(f.Steps)),
 			"pathways_text": ListText(tr.pathways),
 			"crosses_text":  ListText(tr.crosses),
 			"turns_text":    ListText(tr.turns),
@@ -214,7 +219,6 @@ func routeFeature(r *route.Result, l *routing.Leg) geo.RouteFeature {
 			props["limit_db"] = round2(w.LimitDB)
 			props["margin_db"] = round2(w.MarginDB)
 		}
-		f := LegRoute(l)
 		f.Props = props
 		return f
 	}
@@ -382,6 +386,10 @@ type Summary struct {
 	Warnings      []string       `json:"warnings"`
 	// Notes say what of the plan's entries was left out, and why (route.Result.Notes).
 	Notes []string `json:"notes,omitempty"`
+	// StartedFrom names the plan folder whose routes the optimizer began from (route.Result
+	// .StartedFrom: `plan --start-from`, a sweep's base scenario); absent for a plan solved
+	// from scratch.
+	StartedFrom string `json:"started_from,omitempty"`
 }
 
 // CostDriver is one of the largest lines of the bill of materials.
@@ -405,7 +413,7 @@ func Summarize(r *route.Result) Summary {
 	s := Summary{Scenario: r.Plan.Name, Hub: r.Hub, Buildings: len(r.Site.Campus.Buildings),
 		Links: len(r.Links), Legs: len(r.Legs), Warnings: append([]string{}, r.Warnings...), Notes: r.Notes,
 		MediaMix: map[string]int{}, Currency: r.Currency, NewTrenchM: round1(newWorkM(r.Estimate)),
-		BudgetCents: int64(r.Plan.Budget)}
+		BudgetCents: int64(r.Plan.Budget), StartedFrom: r.StartedFrom}
 	if DemoPrices(r) {
 		s.DemoPrices = DemoPricesWarning
 	}

@@ -190,6 +190,13 @@ func (c *canonical) back(s *optimize.Solution) *optimize.Solution {
 		}
 		out.Routes[i] = r
 	}
+	if s.StartUnused != nil {
+		out.StartUnused = make([]int, len(s.StartUnused))
+		for i, k := range s.StartUnused {
+			out.StartUnused[i] = c.dem[k]
+		}
+		slices.Sort(out.StartUnused)
+	}
 	out.Infeasible = make([]optimize.Infeasible, len(s.Infeasible))
 	for i, in := range s.Infeasible {
 		in.Demand = c.dem[in.Demand]
@@ -217,6 +224,32 @@ func (c *canonical) back(s *optimize.Solution) *optimize.Solution {
 	return &out
 }
 
+// start puts a warm start of the original problem (one route per demand, in its order) in
+// canonical order, with canonical edge numbers; nil stays nil.
+func (c *canonical) start(routes []optimize.StartRoute) []optimize.StartRoute {
+	if routes == nil {
+		return nil
+	}
+	edgeRank := make([]int, len(c.edge))
+	for k, e := range c.edge {
+		edgeRank[e] = k
+	}
+	out := make([]optimize.StartRoute, len(c.dem))
+	for k, i := range c.dem {
+		r := routes[i]
+		legs := make([][]optimize.Hop, len(r.Legs))
+		for l, leg := range r.Legs {
+			legs[l] = make([]optimize.Hop, len(leg))
+			for x, h := range leg {
+				legs[l][x] = optimize.Hop{Edge: edgeRank[h.Edge], Forward: h.Forward}
+			}
+		}
+		r.Legs = legs
+		out[k] = r
+	}
+	return out
+}
+
 // solve runs the optimizer, or returns the solution of an identical problem solved before on
 // this site. Solve is deterministic, so the answer is the same either way; the returned
 // solution is the caller's own, mapped back from the canonical one the cache keeps. A solve
@@ -226,6 +259,7 @@ func (c *canonical) back(s *optimize.Solution) *optimize.Solution {
 // the campus's geometry and costs, not on the names of its ids.
 func solve(ctx context.Context, s *site.Site, lay *layout, prob *optimize.Problem, opt optimize.Settings) (*optimize.Solution, error) {
 	c := canonicalize(prob, func(n int) [2]float64 { return lay.at[n] }, func(n int) string { return lay.name[n] })
+	opt.Start = c.start(opt.Start)
 	key, ok := optimize.Fingerprint(c.prob, opt)
 	if ok {
 		if sol, hit := s.Solved.Get(key); hit {

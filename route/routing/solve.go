@@ -38,6 +38,10 @@ type Routed struct {
 	// ConstantCents is what the plan pays whatever its routes: the entrances of buildings with
 	// one (items.Entrance), used as soon as a leg ends there.
 	ConstantCents int64
+	// StartUnused lists, in link order, the links whose routes in SolveFrom's start did not
+	// fit this plan (another network, hub or medium, a span gone, beyond reach) and were
+	// placed afresh; nil without a start.
+	StartUnused []string
 }
 
 // EntranceUse is a building entrance the plan uses.
@@ -59,6 +63,13 @@ type Handhole struct {
 // the others; it carries its reason. When ctx is done, the optimizer and the media choice stop
 // within a step and Solve returns ctx's error.
 func Solve(ctx context.Context, s *site.Site, m *Model, links []site.Link) (*Routed, error) {
+	return SolveFrom(ctx, s, m, links, nil)
+}
+
+// SolveFrom is Solve with the optimizer's search begun from start's routes (a warm start);
+// nil start is Solve. The links whose start routes no longer fit are placed afresh and listed
+// in Routed.StartUnused.
+func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, start *Start) (*Routed, error) {
 	runs := m.runsOf(s)
 	prob, lay, infos, err := problem(s, m, links, runs)
 	if err != nil {
@@ -67,7 +78,12 @@ func Solve(ctx context.Context, s *site.Site, m *Model, links []site.Link) (*Rou
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
-	sol, err := solve(ctx, s, lay, prob, optimize.Settings{Objective: m.design.Objective})
+	opt := optimize.Settings{Objective: m.design.Objective}
+	var unfit []int
+	if start != nil {
+		opt.Start, unfit = startRoutes(s, lay, prob, start)
+	}
+	sol, err := solve(ctx, s, lay, prob, opt)
 	if err != nil {
 		if ctx.Err() != nil {
 			return nil, ctx.Err()
@@ -75,6 +91,13 @@ func Solve(ctx context.Context, s *site.Site, m *Model, links []site.Link) (*Rou
 		return nil, fmt.Errorf("route: optimizer: %w", err)
 	}
 	r := &Routed{ObjectiveCents: sol.TotalCents, LowerBoundCents: sol.LowerBoundCents, Fill: fillReport(s, prob, sol)}
+	if start != nil {
+		unfit = append(unfit, sol.StartUnused...)
+		slices.Sort(unfit)
+		for _, d := range slices.Compact(unfit) {
+			r.StartUnused = append(r.StartUnused, links[d].ID)
+		}
+	}
 	for _, e := range sol.Opened {
 		r.Opened = append(r.Opened, s.Net.Spans[e].ID)
 	}

@@ -2,15 +2,22 @@ package sweep
 
 import (
 	"context"
+	"encoding/json"
 	"fmt"
+	"math"
 	"os"
 	"path/filepath"
 	"runtime"
 	"runtime/debug"
-	"spanwright/route/output"
+	"strconv"
 	"strings"
 	"sync"
 	"testing"
+
+	"go.yaml.in/yaml/v3"
+
+	"spanwright/route/internal/campusgen"
+	"spanwright/route/output"
 )
 
 // benchSizes are the axes' lengths of each benchmarked sweep size.
@@ -158,4 +165,118 @@ func benchOut(b *testing.B) string {
 		b.Fatal(err)
 	}
 	return dir
+}
+
+// priceSweep writes a sweep of a generated campus of n buildings (campusgen.BenchOptions,
+// seed 1) over price books that scale the demo book's new construction (trench_per_m,
+// restoration_per_m, directional_bore_per_m) by each of trench and its cable_per_m by each of
+// cable: len(trench)×len(cable) scenarios in one prices axis, the first (the base scenario)
+// at trench[0] and cable[0].
+func priceSweep(tb testing.TB, n int, trench, cable []float64) *File {
+	tb.Helper()
+	dir := tb.TempDir()
+	if err := campusgen.WriteFiles(dir, campusgen.Generate(1, campusgen.BenchOptions(n)), 4); err != nil {
+		tb.Fatal(err)
+	}
+	src, err := os.ReadFile("../../media/prices-demo.yaml")
+	if err != nil {
+		tb.Fatal(err)
+	}
+	var names []string
+	for i, t := range trench {
+		for j, c := range cable {
+			var doc yaml.Node
+			if err := yaml.Unmarshal(src, &doc); err != nil {
+				tb.Fatal(err)
+			}
+			root := doc.Content[0]
+			for k := 0; k+1 < len(root.Content); k += 2 {
+				switch root.Content[k].Value {
+				case "trench_per_m", "restoration_per_m", "directional_bore_per_m":
+					scaleAmounts(root.Content[k+1], t)
+				case "cable_per_m":
+					scaleAmounts(root.Content[k+1], c)
+				}
+			}
+			data, err := yaml.Marshal(&doc)
+			if err != nil {
+				tb.Fatal(err)
+			}
+			name := fmt.Sprintf("prices-t%d-c%d.yaml", i, j)
+			if err := os.WriteFile(filepath.Join(dir, name), data, 0o644); err != nil {
+				tb.Fatal(err)
+			}
+			names = append(names, name)
+		}
+	}
+	path := filepath.Join(dir, "sweep.yaml")
+	if err := os.WriteFile(path, []byte("base: plan.yaml\nvary:\n  prices: ["+strings.Join(names, ", ")+"]\n"), 0o644); err != nil {
+		tb.Fatal(err)
+	}
+	f, err := Load(path)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return f
+}
+
+// scaleAmounts multiplies every amount (a scalar value of a mapping, at any depth; keys are
+// strand counts and stay) under n by k, rounded to cents.
+func scaleAmounts(n *yaml.Node, k float64) {
+	switch n.Kind {
+	case yaml.MappingNode:
+		for i := 1; i < len(n.Content); i += 2 {
+			scaleAmounts(n.Content[i], k)
+		}
+	case yaml.ScalarNode:
+		if v, err := strconv.ParseFloat(n.Value, 64); err == nil {
+			n.Value, n.Tag = strconv.FormatFloat(math.Round(v*k*100)/100, 'f', 2, 64), "!!float"
+		}
+	}
+}
+
+// BenchmarkSweepWarm plans a price sweep of 20 scenarios (trench ×0.5 to ×8, cable ×0.5 to
+// ×4) of a generated 300-building campus cold (each scenario from scratch) and warm (each
+// from the base scenario's routes), two jobs, lean folders as `spanwright sweep` writes by
+// default. It reports the mean of the scenarios' objectives, whose cold-to-warm change is
+// the warm start's effect on the plans.
+func BenchmarkSweepWarm(b *testing.B) {
+	defer debug.SetGCPercent(debug.SetGCPercent(400))
+	f := priceSweep(b, 300, []float64{0.5, 1, 2, 4, 8}, []float64{0.5, 1, 2, 4})
+	for _, cold := range []bool{true, false} {
+		name := "warm"
+		if cold {
+			name = "cold"
+		}
+		b.Run(name, func(b *testing.B) {
+			var objective float64
+			for i := 0; i < b.N; i++ {
+				out := benchOut(b)
+				rep, err := Run(context.Background(), f, Options{Out: out, Jobs: 2, Cold: cold,
+					Write: output.WriteOptions{SkipWorkbook: true, SkipGeoPackage: true}})
+				if err != nil {
+					b.Fatal(err)
+				}
+				if rep.Failed > 0 {
+					b.Fatalf("%d scenarios failed, first: %s", rep.Failed, rep.Failures[0].Error)
+				}
+				b.StopTimer()
+				objective = 0
+				for _, sc := range f.Scenarios() {
+					data, err := os.ReadFile(filepath.Join(out, sc.ID, SummaryFile))
+					if err != nil {
+						b.Fatal(err)
+					}
+					var s output.Summary
+					if err := json.Unmarshal(data, &s); err != nil {
+						b.Fatal(err)
+					}
+					objective += float64(s.ObjectiveCents) / 100
+				}
+				b.StartTimer()
+			}
+			b.ReportMetric(float64(len(f.Scenarios())*b.N)/b.Elapsed().Seconds(), "scenarios/s")
+			b.ReportMetric(objective/float64(len(f.Scenarios())), "mean-objective")
+		})
+	}
 }

@@ -86,6 +86,10 @@ type Options struct {
 	// plan's campus_database (the command line's --campus-db); scenarios' plan.yaml keep
 	// their own.
 	CampusDatabase string
+	// Cold plans every scenario from scratch, as `spanwright plan` plans its plan alone. By
+	// default a scenario on the base scenario's network (the same campus files and noding)
+	// starts its search from the base scenario's routes (see Run).
+	Cold bool
 }
 
 // Progress is the state of a running sweep.
@@ -149,6 +153,13 @@ func (r *Report) count(row Row) {
 // sweep (a file that cannot be written, or ctx cancelled: then the finished scenario folders
 // stay and no rows or comparison file is written). The output is the same, byte for byte,
 // whatever opt.Jobs is.
+//
+// Warm start: unless opt.Cold, the base scenario (the first in sweep order) is planned first,
+// from scratch, and every other scenario on its network begins the optimizer's search from
+// its routes, read back from its routes.geojson as `spanwright plan --start-from` reads them
+// (so that command reproduces the scenario alone); the scenario's summary names the base
+// (started_from) and its inputs.sha256 lists the base's routes.geojson. A shard without the
+// base plans it too, without writing it, so every shard starts from the same routes.
 func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
 	r, err := newRunner(f, opt)
 	if err != nil {
@@ -171,6 +182,12 @@ func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
 		return nil, err
 	}
 	if err := fileset.CheckOverwrite(opt.Out, names, r.protect); err != nil {
+		return nil, err
+	}
+	if err := r.planBase(ctx); err != nil {
+		if ctx.Err() != nil && errors.Is(err, ctx.Err()) {
+			return nil, fmt.Errorf("sweep stopped while planning the base scenario, before any scenario was written: %w", err)
+		}
 		return nil, err
 	}
 	rows, err := r.runAll(ctx, mine)
@@ -250,6 +267,11 @@ type runner struct {
 	// rebaseSweep and rebaseBase turn a file name relative to the sweep file's folder, or to
 	// the base plan's, into one relative to a scenario folder.
 	rebaseSweep, rebaseBase func(string) string
+
+	// base is the warm start every scenario on the base scenario's network begins from; nil
+	// when the sweep is cold or the base scenario failed. Set before the scenarios are planned
+	// and only read while they are.
+	base *baseStart
 
 	mu      sync.Mutex
 	skipped int
@@ -354,8 +376,9 @@ const writersPerJob = 4
 
 // outcome is a planned scenario: its row and the folder to write (nil when kept as it was).
 type outcome struct {
-	row   Row
-	files []fileset.OutputFile
+	row     Row
+	files   []fileset.OutputFile
+	skipped bool // kept as it was (Options.Resume)
 }
 
 // runAll plans the scenarios on a pool of workers, writes their folders on a pool of writers,
@@ -382,7 +405,12 @@ func (r *runner) runAll(ctx context.Context, list []Scenario) ([]Row, error) {
 		go func() {
 			defer wg.Done()
 			for pos := range next {
-				out, err := r.scenario(ctx, list[pos])
+				out, err := r.planned(ctx, list[pos])
+				if out.skipped {
+					r.mu.Lock()
+					r.skipped++
+					r.mu.Unlock()
+				}
 				if err != nil || out.files == nil {
 					results <- result{pos, out.row, err}
 					continue
@@ -446,9 +474,10 @@ func (r *runner) runAll(ctx context.Context, list []Scenario) ([]Row, error) {
 	return rows, nil
 }
 
-// scenario plans one scenario and renders its folder. The error is for what must stop the
-// sweep; a scenario's own failure is in the row.
-func (r *runner) scenario(ctx context.Context, sc Scenario) (outcome, error) {
+// scenario plans one scenario and renders its folder, or with resume keeps a folder of the
+// same inputs (outcome.skipped). The error is for what must stop the sweep; a scenario's own
+// failure is in the row.
+func (r *runner) scenario(ctx context.Context, sc Scenario, resume bool) (outcome, error) {
 	out := outcome{row: newRow(sc)}
 	if err := ctx.Err(); err != nil {
 		return out, err
@@ -475,14 +504,16 @@ func (r *runner) scenario(ctx context.Context, sc Scenario) (outcome, error) {
 	if err != nil {
 		return fail(err)
 	}
+	if r.startOf(sc, p) != nil {
+		// The routes it starts from are an input too: a new base plans it again.
+		inputs = append(inputs, sumLine(r.base.routesSum, "../"+r.base.id+"/"+output.RoutesFile)...)
+	}
 	// A database has no file to hash: a scenario that reads one is planned again.
-	if r.opt.Resume && p.CampusDatabase == "" {
+	if resume && p.CampusDatabase == "" {
 		if s, ok := r.resumable(dir, inputs); ok {
 			out.row.fill(s)
 			out.row.Report = htmlIn(dir)
-			r.mu.Lock()
-			r.skipped++
-			r.mu.Unlock()
+			out.skipped = true
 			return out, nil
 		}
 	}
@@ -494,7 +525,7 @@ func (r *runner) scenario(ctx context.Context, sc Scenario) (outcome, error) {
 	if err != nil {
 		return fail(err)
 	}
-	res, err := route.SolveWith(ctx, site, p, eng)
+	res, err := route.SolveFrom(ctx, site, p, eng, r.startOf(sc, p))
 	if err != nil {
 		if ctx.Err() != nil {
 			return out, ctx.Err()
@@ -769,6 +800,15 @@ const (
 // site returns the site of the plan's campus files and noding options, built once and
 // shared read-only.
 func (r *runner) site(p *plan.Plan) (*site.Site, error) {
+	files, opt, key := siteOf(p)
+	// The site is shared by every scenario that reads it and kept with its error, so no one
+	// scenario's stop may end its building: it is built to the end.
+	return r.sites.get(key, func() (*site.Site, error) { return site.Load(context.Background(), nil, files, opt) })
+}
+
+// siteOf is what site.Load reads for the plan: its campus files, the options, and a key that
+// is the same for two plans exactly when those are.
+func siteOf(p *plan.Plan) ([]string, site.Options, string) {
 	files := make([]string, len(p.Campus))
 	for i, f := range p.Campus {
 		files[i] = p.Path(f)
@@ -785,9 +825,7 @@ func (r *runner) site(p *plan.Plan) (*site.Site, error) {
 	}
 	key.WriteString(strconv.FormatFloat(opt.SnapM, 'g', -1, 64) + "\x00" + strconv.FormatFloat(opt.MaxLateralM, 'g', -1, 64))
 	key.WriteString("\x00" + opt.Database)
-	// The site is shared by every scenario that reads it and kept with its error, so no one
-	// scenario's stop may end its building: it is built to the end.
-	return r.sites.get(key.String(), func() (*site.Site, error) { return site.Load(context.Background(), nil, files, opt) })
+	return files, opt, key.String()
 }
 
 // hash returns the SHA-256 of an input file, read once per sweep.

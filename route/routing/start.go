@@ -1,0 +1,185 @@
+package routing
+
+import (
+	"slices"
+
+	"spanwright/route/optimize"
+	"spanwright/route/site"
+)
+
+// Start is an earlier plan's routes for the optimizer to begin its search from (a warm
+// start, optimize.Settings.Start): a sweep's base scenario for the scenarios after it, or
+// the routes.geojson of an earlier plan's folder (`spanwright plan --start-from`). The plan
+// depends on its start, so the same plan from the same start gives the same bytes.
+type Start struct {
+	// From names where the routes come from (a plan folder's name), for the outputs.
+	From string
+	// Legs are the earlier plan's feasible legs; at most one primary and one diverse leg per
+	// link (a later one of the same link and leg is ignored).
+	Legs []StartLeg
+}
+
+// StartLeg is one leg of a Start, as routes.geojson writes it.
+type StartLeg struct {
+	Link   string   // the link's ID
+	Leg    string   // LegPrimary or LegDiverse
+	Medium string   // the catalog medium it carries: the option the route starts in
+	Spans  []string // span IDs in the order of the line: from the link's from building to its to building
+}
+
+// startRoutes turns start into the optimizer's warm start of prob (one route per demand, in
+// demand order; edges matched by span ID, and the entrance and turn edges between them and at
+// the ends found from the layout) and lists, by demand, the links whose routes there do not
+// join on this site: a span it does not have, spans that do not meet, a leg that does not end
+// at the link's buildings, a medium that is not one of the link's options, a diverse leg
+// without its primary. Those start as Option -1 (placed afresh by the optimizer, which then
+// does not report them) and are reported here instead. A link without a leg in the start is
+// placed afresh and not reported.
+func startRoutes(s *site.Site, lay *layout, prob *optimize.Problem, start *Start) ([]optimize.StartRoute, []int) {
+	net := s.Net
+	spanAt := make(map[string]int, len(net.Spans))
+	for i := range net.Spans {
+		spanAt[net.Spans[i].ID] = i
+	}
+	nSpans := len(net.Spans)
+	extraAt := make(map[int][]int) // node → the extra edges (optimizer edge indexes) at it, ascending
+	for k, x := range lay.extra {
+		extraAt[x.from] = append(extraAt[x.from], nSpans+k)
+		if x.to != x.from {
+			extraAt[x.to] = append(extraAt[x.to], nSpans+k)
+		}
+	}
+	// hop is the extra edge e taken from u, and the node it leads to.
+	hop := func(u, e int) (optimize.Hop, int) {
+		if x := &lay.extra[e-nSpans]; x.from == u {
+			return optimize.Hop{Edge: e, Forward: true}, x.to
+		} else {
+			return optimize.Hop{Edge: e, Forward: false}, x.from
+		}
+	}
+	// join takes extra edges (entrance and turn edges, no length) from u to one of the nodes
+	// in to: one if one does, else two (a leg between two buildings that meet at a junction
+	// takes no span); the lowest edge indexes first.
+	join := func(u int, to ...int) ([]optimize.Hop, int, bool) {
+		for _, e := range extraAt[u] {
+			if h, v := hop(u, e); slices.Contains(to, v) {
+				return []optimize.Hop{h}, v, true
+			}
+		}
+		for _, e := range extraAt[u] {
+			h, w := hop(u, e)
+			for _, e2 := range extraAt[w] {
+				if h2, v := hop(w, e2); e2 != e && slices.Contains(to, v) {
+					return []optimize.Hop{h, h2}, v, true
+				}
+			}
+		}
+		return nil, 0, false
+	}
+	// walk follows spans from node from and ends at node to, joining them by extra edges
+	// where they do not meet; the hops are returned from to back to from.
+	walk := func(from, to int, spans []string) ([]optimize.Hop, bool) {
+		u := from
+		var hops []optimize.Hop
+		for _, id := range spans {
+			e, ok := spanAt[id]
+			if !ok {
+				return nil, false
+			}
+			a, b := lay.spanEnds[e][0], lay.spanEnds[e][1]
+			if u != a && u != b {
+				hs, v, ok := join(u, a, b)
+				if !ok {
+					return nil, false
+				}
+				hops, u = append(hops, hs...), v
+			}
+			if u == a {
+				hops, u = append(hops, optimize.Hop{Edge: e, Forward: true}), b
+			} else {
+				hops, u = append(hops, optimize.Hop{Edge: e, Forward: false}), a
+			}
+		}
+		if u != to {
+			hs, _, ok := join(u, to)
+			if !ok {
+				return nil, false
+			}
+			hops = append(hops, hs...)
+		}
+		if len(hops) == 0 {
+			return nil, false
+		}
+		// Back to front, each hop turned round: from to to from.
+		out := make([]optimize.Hop, len(hops))
+		for i, h := range hops {
+			out[len(hops)-1-i] = optimize.Hop{Edge: h.Edge, Forward: !h.Forward}
+		}
+		return out, true
+	}
+	type pair struct{ primary, diverse *StartLeg }
+	byLink := map[string]*pair{}
+	for i := range start.Legs {
+		l := &start.Legs[i]
+		p := byLink[l.Link]
+		if p == nil {
+			p = &pair{}
+			byLink[l.Link] = p
+		}
+		switch {
+		case l.Leg == LegPrimary && p.primary == nil:
+			p.primary = l
+		case l.Leg == LegDiverse && p.diverse == nil:
+			p.diverse = l
+		}
+	}
+	out := make([]optimize.StartRoute, len(prob.Demands))
+	var unfit []int
+	for d := range prob.Demands {
+		dm := &prob.Demands[d]
+		out[d] = optimize.StartRoute{ID: dm.ID, Option: -1}
+		p := byLink[dm.ID]
+		if p == nil || (p.primary == nil && p.diverse == nil) {
+			continue
+		}
+		r, ok := startRoute(dm, p.primary, p.diverse, walk)
+		if !ok {
+			unfit = append(unfit, d)
+			continue
+		}
+		out[d] = r
+	}
+	return out, unfit
+}
+
+// startRoute is demand dm's start route from its start legs (the diverse one nil when there is
+// none), or false when they do not join on the site (startRoutes). The route starts in the
+// primary's medium (the optimizer gives a pair one medium; the rules may choose another for
+// the diverse leg on its own facts). The legs run from the
+// link's from building (the demand's Target) to its to building (Source); walk turns them.
+func startRoute(dm *optimize.Demand, primary, diverse *StartLeg, walk func(from, to int, spans []string) ([]optimize.Hop, bool)) (optimize.StartRoute, bool) {
+	r := optimize.StartRoute{ID: dm.ID, Option: -1}
+	if primary == nil || (diverse != nil && !dm.Diverse) {
+		return r, false
+	}
+	for o := range dm.Options {
+		if dm.Options[o].Name == primary.Medium {
+			r.Option = o
+			break
+		}
+	}
+	if r.Option < 0 {
+		return r, false
+	}
+	for _, l := range []*StartLeg{primary, diverse} {
+		if l == nil {
+			continue
+		}
+		hops, ok := walk(dm.Target, dm.Source, l.Spans)
+		if !ok {
+			return optimize.StartRoute{ID: dm.ID, Option: -1}, false
+		}
+		r.Legs = append(r.Legs, hops)
+	}
+	return r, true
+}

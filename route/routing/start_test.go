@@ -1,0 +1,146 @@
+package routing
+
+import (
+	"context"
+	"fmt"
+	"slices"
+	"testing"
+	"testing/fstest"
+
+	"spanwright/route/internal/campusgen"
+	"spanwright/route/internal/testsite"
+	"spanwright/route/optimize"
+	"spanwright/route/plan"
+	"spanwright/route/site"
+)
+
+// startOfSolution writes sol's routes as routes.geojson carries them (output.ReadStart): per
+// feasible route, its legs' span IDs from the link's from building to its to building (the
+// demand's Target to its Source) and its medium; entrance and turn edges are left out.
+func startOfSolution(nSpans int, prob *optimize.Problem, sol *optimize.Solution) *Start {
+	st := &Start{From: "earlier"}
+	for _, r := range sol.Routes {
+		if !r.Feasible {
+			continue
+		}
+		for i, leg := range []optimize.Leg{r.Primary, r.Secondary} {
+			if len(leg.Hops) == 0 {
+				continue
+			}
+			l := StartLeg{Link: prob.Demands[r.Demand].ID, Leg: []string{LegPrimary, LegDiverse}[i], Medium: r.Medium, Spans: []string{}}
+			for k := len(leg.Hops) - 1; k >= 0; k-- {
+				if e := leg.Hops[k].Edge; e < nSpans {
+					l.Spans = append(l.Spans, prob.Edges[e].ID)
+				}
+			}
+			st.Legs = append(st.Legs, l)
+		}
+	}
+	return st
+}
+
+// TestStartRoutesRebuildsSolution: an optimizer solution written as span IDs alone (as
+// routes.geojson keeps it) and read back by startRoutes is the optimizer's own warm start of
+// it (optimize.StartFrom), hop for hop, the entrance and turn edges between spans found again;
+// on the demo campus (two-entrance buildings, turn handholes) and a generated 150-building
+// campus. A start whose spans no longer join is reported, link by link. A round trip of the
+// project's own routes: no outside source.
+func TestStartRoutesRebuildsSolution(t *testing.T) {
+	t.Parallel()
+	demo, dp := testsite.Demo(t)
+	gen, gp := generatedSite(t, 150)
+	for _, tc := range []struct {
+		name string
+		s    *site.Site
+		p    *plan.Plan
+	}{{"demo", demo, dp}, {"generated 150", gen, gp}} {
+		t.Run(tc.name, func(t *testing.T) {
+			eng, err := plan.Engine(tc.p)
+			if err != nil {
+				t.Fatal(err)
+			}
+			m, err := NewModel(eng, tc.p.Design)
+			if err != nil {
+				t.Fatal(err)
+			}
+			hub, _ := tc.s.Hub(tc.p)
+			links, _, errs := tc.s.Links(tc.p, hub)
+			if len(errs) > 0 {
+				t.Fatal(errs)
+			}
+			prob, lay, _, err := problem(tc.s, m, links, m.runsOf(tc.s))
+			if err != nil {
+				t.Fatal(err)
+			}
+			sol, err := solve(context.Background(), tc.s, lay, prob, optimize.Settings{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			nSpans := len(tc.s.Net.Spans)
+			extras := 0
+			for _, r := range sol.Routes {
+				for _, h := range slices.Concat(r.Primary.Hops, r.Secondary.Hops) {
+					if h.Edge >= nSpans {
+						extras++
+					}
+				}
+			}
+			st := startOfSolution(nSpans, prob, sol)
+			got, unfit := startRoutes(tc.s, lay, prob, st)
+			want := optimize.StartFrom(sol)
+			if len(unfit) > 0 {
+				t.Errorf("%d links reported not to fit their own routes, first %s", len(unfit), prob.Demands[unfit[0]].ID)
+			}
+			for d := range want {
+				if fmt.Sprint(got[d]) != fmt.Sprint(want[d]) {
+					t.Errorf("demand %s: rebuilt\n  %v\nwant\n  %v", want[d].ID, got[d], want[d])
+				}
+			}
+			t.Logf("%d demands, %d entrance and turn edges rebuilt", len(want), extras)
+			if extras == 0 {
+				t.Error("no route takes an entrance or turn edge: the campus does not test their rebuilding")
+			}
+			// A span gone, a span from elsewhere: those links start afresh, and are named.
+			broken := &Start{From: st.From, Legs: slices.Clone(st.Legs)}
+			broken.Legs[0].Spans = append([]string{"no such span"}, broken.Legs[0].Spans...)
+			last := len(broken.Legs) - 1
+			broken.Legs[last].Spans = slices.Clone(broken.Legs[last].Spans)
+			slices.Reverse(broken.Legs[last].Spans) // walked from the wrong end
+			got, unfit = startRoutes(tc.s, lay, prob, broken)
+			var names []string
+			for _, d := range unfit {
+				names = append(names, prob.Demands[d].ID)
+				if got[d].Option != -1 || got[d].Legs != nil {
+					t.Errorf("demand %s does not fit but starts from %v", prob.Demands[d].ID, got[d])
+				}
+			}
+			wantNames := []string{broken.Legs[0].Link}
+			if len(broken.Legs[last].Spans) > 1 && broken.Legs[last].Link != broken.Legs[0].Link {
+				wantNames = append(wantNames, broken.Legs[last].Link)
+			}
+			slices.Sort(names)
+			slices.Sort(wantNames)
+			if fmt.Sprint(names) != fmt.Sprint(wantNames) {
+				t.Errorf("links reported not to fit: %v, want %v", names, wantNames)
+			}
+		})
+	}
+}
+
+// generatedSite is a generated campus of n buildings (seed 1, campusgen.BenchOptions) with
+// its plan, every fourth building of those with two laterals on a diverse link.
+func generatedSite(t *testing.T, n int) (*site.Site, *plan.Plan) {
+	t.Helper()
+	c := campusgen.Generate(1, campusgen.BenchOptions(n))
+	p, err := plan.ParsePlan("plan.yaml", []byte(c.PlanYAML([]string{"campus.geojson"}, 4)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	p.Dir = t.TempDir()
+	fsys := fstest.MapFS{"campus.geojson": &fstest.MapFile{Data: campusgen.GeoJSON(c.Features)}}
+	s, err := site.Load(context.Background(), fsys, p.Campus, site.Options{SnapM: p.Design.SnapM, MaxLateralM: p.Design.MaxLateralM})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return s, p
+}

@@ -1,0 +1,121 @@
+package sweep
+
+import (
+	"context"
+	"crypto/sha256"
+	"encoding/hex"
+	"fmt"
+	"path/filepath"
+
+	"spanwright/geo/input"
+	"spanwright/route/output"
+	"spanwright/route/plan"
+	"spanwright/route/routing"
+)
+
+// baseStart is the base scenario's plan as the warm start of the others (Run).
+type baseStart struct {
+	index   int    // the base scenario's index (0)
+	id      string // its id: its folder's name
+	siteKey string // its site (siteOf): a scenario on another starts from scratch
+	// start is its routes, read back from its routes.geojson as `plan --start-from` reads
+	// them; nil when the base scenario failed.
+	start *routing.Start
+	// routesSum is the SHA-256 of its routes.geojson, listed in the inputs.sha256 of every
+	// scenario that starts from it.
+	routesSum string
+	// out is its own outcome when it belongs to this run (the shard's), to be written as is.
+	out *outcome
+}
+
+// planBase plans the base scenario from scratch, as `spanwright plan` plans it, and keeps
+// its routes as the warm start of the scenarios after it (runner.base); nothing when the
+// sweep is cold or has one scenario. With Options.Resume a base folder of the same inputs is
+// read instead of planned. Its error is for what must stop the sweep.
+func (r *runner) planBase(ctx context.Context) error {
+	all := r.f.Scenarios()
+	if r.opt.Cold || len(all) < 2 {
+		return nil
+	}
+	sc := all[0]
+	out, err := r.scenario(ctx, sc, r.opt.Resume)
+	if err != nil {
+		return err
+	}
+	b := &baseStart{index: sc.Index, id: sc.ID}
+	if r.opt.Shard.Has(sc.Index) {
+		b.out = &out
+	}
+	r.base = b
+	if out.row.Status == StatusFailed {
+		return nil // no start: every scenario plans from scratch, as the base's row says why
+	}
+	dir := filepath.Join(r.out, sc.ID)
+	path := filepath.Join(dir, output.RoutesFile)
+	var routes []byte
+	var st *routing.Start
+	if out.skipped {
+		routes, err = input.ReadFile(path, input.Cap(r.f.MaxInputBytes, input.DefaultDataMiB))
+		if err == nil {
+			st, err = output.ParseStart(path, routes)
+		}
+		if err != nil {
+			// Its folder is not whole after all: plan it (and write it, when it is this run's).
+			if out, err = r.scenario(ctx, sc, false); err != nil {
+				return err
+			}
+			if b.out != nil {
+				b.out = &out
+			}
+			if out.row.Status == StatusFailed {
+				return nil
+			}
+			routes, st = nil, nil
+		}
+	}
+	if st == nil {
+		for _, o := range out.files {
+			if o.Name == output.RoutesFile {
+				routes = o.Data
+			}
+		}
+		if st, err = output.ParseStart(path, routes); err != nil {
+			return fmt.Errorf("sweep: base scenario %s: its own routes: %w", sc.ID, err) // a bug: the writer and the reader disagree
+		}
+	}
+	st.From = sc.ID
+	planData, err := r.planYAML(sc)
+	if err != nil {
+		return err
+	}
+	p, err := plan.ParsePlanOptions(filepath.Join(dir, PlanFile), planData, plan.LoadOptions{CampusDatabase: r.opt.CampusDatabase})
+	if err != nil {
+		return fmt.Errorf("sweep: base scenario %s: %w", sc.ID, err) // it planned, so it parses
+	}
+	sum := sha256.Sum256(routes)
+	_, _, b.siteKey = siteOf(p)
+	b.start, b.routesSum = st, hex.EncodeToString(sum[:])
+	return nil
+}
+
+// planned is the scenario's outcome: the base scenario's as planBase planned it, or planned
+// now.
+func (r *runner) planned(ctx context.Context, sc Scenario) (outcome, error) {
+	if b := r.base; b != nil && b.out != nil && sc.Index == b.index {
+		return *b.out, nil
+	}
+	return r.scenario(ctx, sc, r.opt.Resume)
+}
+
+// startOf is the warm start of scenario sc with plan p: the base's routes when sc is another
+// scenario on the base's site, nil otherwise.
+func (r *runner) startOf(sc Scenario, p *plan.Plan) *routing.Start {
+	b := r.base
+	if b == nil || b.start == nil || sc.Index == b.index {
+		return nil
+	}
+	if _, _, key := siteOf(p); key != b.siteKey {
+		return nil
+	}
+	return b.start
+}

@@ -1,0 +1,112 @@
+package sweep
+
+import (
+	"bytes"
+	"encoding/json"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// TestWarmStartSameBytes: the warm-started sweep of the demo campus (two hubs, two rates, a
+// case with every link diverse, a failing case) gives the same bytes in every shard (the
+// shard without the base scenario plans the base too) and on --resume, which keeps every
+// folder; every scenario on the base's network but the base names it as started_from and
+// lists the base's routes.geojson in its inputs.sha256, which GNU sha256sum -c accepts in the
+// scenario's folder; a cold sweep names no start, and resuming it warm plans again every
+// scenario but the base (its inputs changed).
+func TestWarmStartSameBytes(t *testing.T) {
+	t.Parallel()
+	f := load(t, "small.yaml")
+	base := f.Scenarios()[0]
+	whole := t.TempDir()
+	run(t, f, Options{Out: whole, Jobs: 2})
+	all := tree(t, whole)
+
+	shards := t.TempDir()
+	for _, s := range []Shard{{I: 2, N: 3}, {I: 3, N: 3}} { // neither holds scenario 0
+		run(t, f, Options{Out: shards, Jobs: 2, Shard: s})
+	}
+	got := tree(t, shards)
+	n := 0
+	for name, data := range got {
+		if strings.HasPrefix(name, base.ID+"/") {
+			t.Errorf("a shard without the base scenario wrote %s", name)
+		}
+		if strings.Contains(name, "/") {
+			n++
+			if !bytes.Equal(data, all[name]) {
+				t.Errorf("shard: %s differs from the whole sweep's", name)
+			}
+		}
+	}
+	if n == 0 {
+		t.Fatal("the shards wrote no scenario files")
+	}
+
+	rep := run(t, f, Options{Out: whole, Jobs: 2, Resume: true})
+	if rep.Skipped != rep.Run-rep.Failed {
+		t.Errorf("resume: %d of %d kept (%d failed), want every planned one", rep.Skipped, rep.Run, rep.Failed)
+	}
+	sameTree(t, "resumed", all, tree(t, whole))
+	// A kept base folder whose routes.geojson does not read is planned again, to the same bytes.
+	if err := os.WriteFile(filepath.Join(whole, base.ID, "routes.geojson"), []byte("{"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	rep = run(t, f, Options{Out: whole, Jobs: 2, Resume: true})
+	if rep.Skipped != rep.Run-rep.Failed-1 {
+		t.Errorf("resume with a broken base: %d of %d kept (%d failed), want all but the base", rep.Skipped, rep.Run, rep.Failed)
+	}
+	sameTree(t, "resumed with a broken base", all, tree(t, whole))
+
+	started := 0
+	for _, sc := range f.Scenarios() {
+		data, ok := all[sc.ID+"/"+SummaryFile]
+		if !ok {
+			continue // failed
+		}
+		var s struct {
+			StartedFrom string `json:"started_from"`
+			Hub         string `json:"hub"`
+		}
+		if err := json.Unmarshal(data, &s); err != nil {
+			t.Fatal(err)
+		}
+		routesLine := "  ../" + base.ID + "/routes.geojson\n"
+		hasLine := strings.Contains(string(all[sc.ID+"/"+InputsFile]), routesLine)
+		switch {
+		case sc.Index == base.Index && (s.StartedFrom != "" || hasLine):
+			t.Errorf("the base scenario started from %q", s.StartedFrom)
+		case sc.Index != base.Index && (s.StartedFrom != base.ID || !hasLine):
+			t.Errorf("%s: started_from %q, routes in inputs.sha256 %v; want the base %s", sc.ID, s.StartedFrom, hasLine, base.ID)
+		case sc.Index != base.Index:
+			started++
+		}
+	}
+	if started == 0 {
+		t.Fatal("no scenario started from the base")
+	}
+	sum := sha256sum(t)
+	for _, sc := range f.Scenarios()[1:2] {
+		cmd := exec.Command(sum, "-c", InputsFile)
+		cmd.Dir = filepath.Join(whole, sc.ID)
+		if out, err := cmd.CombinedOutput(); err != nil || !strings.Contains(string(out), "routes.geojson: OK") {
+			t.Errorf("sha256sum -c in %s: %v\n%s", sc.ID, err, out)
+		}
+	}
+
+	cold := t.TempDir()
+	run(t, f, Options{Out: cold, Jobs: 2, Cold: true})
+	for name, data := range tree(t, cold) {
+		if strings.HasSuffix(name, "/"+SummaryFile) && bytes.Contains(data, []byte(`"started_from"`)) {
+			t.Errorf("cold: %s names a start", name)
+		}
+	}
+	rep = run(t, f, Options{Out: cold, Jobs: 2, Resume: true})
+	if rep.Skipped != 1 {
+		t.Errorf("a cold sweep resumed warm kept %d scenarios, want 1 (the base)", rep.Skipped)
+	}
+	sameTree(t, "resumed warm over cold", all, tree(t, cold))
+}
