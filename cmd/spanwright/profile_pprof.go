@@ -36,8 +36,13 @@ func init() {
 				return
 			}
 			runtime.GC()
-			pprof.WriteHeapProfile(f)
-			f.Close()
+			err = pprof.WriteHeapProfile(f)
+			if cerr := f.Close(); err == nil {
+				err = cerr
+			}
+			if err != nil {
+				fmt.Fprintf(os.Stderr, "spanwright: heap profile: %v\n", err)
+			}
 		}
 	}
 }

@@ -8,14 +8,17 @@ package optimize
 // opened nor phantom when it was built. It stays a lower bound of the searches' weights as long
 // as no edge charged in it has become free since (an edge that closed only makes it looser),
 // which the solver tracks with two counters per tree as edges open, close and turn phantom;
-// a tree is brought up to date when it would no longer bound (and not while a move holds
-// phantom edges, when the plain tree serves), and rebuilt when it has become loose, once per
-// local search round.
+// a tree is brought up to date when it would no longer bound, and rebuilt when it has become
+// loose, once per local search round.
 //
 // Bringing a tree up to date does not rebuild it: the edges that became free since are
 // lowered to their base weight in place (freeUp), and only the nodes whose distance falls are
 // searched again. The tree is then exactly the shortest-path tree of its new weights, as a
-// rebuild would give, save for which of two equal paths a node keeps.
+// rebuild would give, save for which of two equal paths a node keeps. While a move holds
+// phantom edges, the lowering is logged and undone as soon as the last phantom edge is
+// released (rollBack), so that the next move starts from the plan's own tight trees; with more
+// than maxPhantomUp edges to lower (the open start), or a tree due for a rebuild, the plain
+// tree serves during the move.
 
 // planTree is a lower-bound tree over the current plan; see the file comment.
 type planTree struct {
@@ -108,12 +111,20 @@ func (sv *solver) setPhantom(e int32, on bool) {
 	} else {
 		sv.nPhantom--
 	}
-	if sv.st.count[e] == 0 {
-		sv.phantom[e] = on
-		sv.freeChanged(e, on)
-		return
-	}
 	sv.phantom[e] = on
+	if sv.st.count[e] == 0 {
+		sv.freeChanged(e, on)
+	}
+	if sv.nPhantom == 0 {
+		// The move is over: undo what freeUp lowered for it now, so that the next move
+		// (and saveBound's cached trees) start from the tight trees, not from trees left
+		// loose by this one, which the next move could only replace by the plain tree.
+		for _, pt := range sv.planList {
+			if len(pt.undoFree) > 0 {
+				sv.rollBack(pt)
+			}
+		}
+	}
 }
 
 // freeSetIs reports whether freeAt (per proposed edge) is the set of edges free now.

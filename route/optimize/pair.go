@@ -181,7 +181,6 @@ func (sv *solver) groupPair(s, t int, wt func(e int32) (int64, bool), h heuristi
 	if !res.ok {
 		return [2][]Hop{}, false
 	}
-
 	if sv.sharedGroup(res.legs) == 0 {
 		return res.legs, true
 	}

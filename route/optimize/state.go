@@ -265,7 +265,7 @@ func (sv *solver) add(d int, c choice) {
 			st.count[e]++
 			if st.count[e] == 1 {
 				st.total += sv.fixedE[e]
-				if sv.fixedE[e] > 0 && !sv.phantom[e] {
+				if !sv.phantom[e] {
 					sv.freeChanged(int32(e), true)
 				}
 			}
@@ -311,7 +311,7 @@ func (sv *solver) remove(d int) choice {
 			st.count[e]--
 			if st.count[e] == 0 {
 				st.total -= sv.fixedE[e]
-				if sv.fixedE[e] > 0 && !sv.phantom[e] {
+				if !sv.phantom[e] {
 					sv.freeChanged(int32(e), false)
 				}
 			}
