@@ -44,11 +44,11 @@ func sweepCommand() *cli.Command {
 		Flags: []cli.Flag{
 			&cli.PathFlag{Name: "out", Usage: "output folder", Required: true, TakesFile: true},
 			&cli.IntFlag{Name: "jobs", Value: runtime.NumCPU(), Usage: "scenarios planned at once"},
-			&cli.BoolFlag{Name: "resume", Usage: "skip scenarios whose outputs exist and whose inputs are unchanged"},
+			&cli.BoolFlag{Name: "resume", Usage: "skip scenarios whose outputs all exist and whose inputs are unchanged"},
 			&cli.StringFlag{Name: "shard", Usage: "plan part `i/n` of the sweep only: the scenarios whose index mod n is i-1"},
 			&cli.BoolFlag{Name: "quiet", Usage: "print no progress on stderr"},
 			&cli.BoolFlag{Name: "full", Usage: "also write bom.xlsx, plan.gpkg and report.html in every scenario folder (slower)"},
-			&cli.BoolFlag{Name: "cold", Usage: "plan every scenario from scratch, as `spanwright plan` plans it alone, instead of starting from the first scenario's routes"},
+			&cli.BoolFlag{Name: "cold", Usage: "plan every scenario from scratch, as the plan command plans it alone, instead of starting from the first scenario's routes"},
 			unitsFlag,
 			maxInputFlag,
 			campusDBFlag,

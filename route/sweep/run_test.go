@@ -20,6 +20,7 @@ import (
 	"go.yaml.in/yaml/v3"
 
 	"spanwright/route"
+	"spanwright/route/fileset"
 )
 
 func run(t *testing.T, f *File, opt Options) *Report {
@@ -306,6 +307,31 @@ func TestResume(t *testing.T) {
 	if !bytes.Equal(after[id+"/"+InputsFile], first[id+"/"+InputsFile]) {
 		t.Errorf("the damaged scenario was not written again")
 	}
+	// A file removed by hand makes its scenario run again, and it is written back the same.
+	id1 := f.Scenarios()[1].ID
+	os.Remove(filepath.Join(out, id1, "links.csv"))
+	rep = run(t, f, Options{Out: out, Jobs: 1, Resume: true})
+	if rep.Skipped != 3 {
+		t.Errorf("resume after a file was removed: skipped %d, want 3", rep.Skipped)
+	}
+	if got := tree(t, out); !bytes.Equal(got[id1+"/links.csv"], after[id1+"/links.csv"]) {
+		t.Errorf("the scenario missing links.csv was not written again as it was")
+	}
+	// A run that writes more files than the one before (a report: --full) plans every
+	// scenario again rather than keep folders without them.
+	extra := func(ctx context.Context, r *route.Result) ([]fileset.OutputFile, error) {
+		return []fileset.OutputFile{{Name: "report.html", Data: []byte("<p>report</p>\n")}}, nil
+	}
+	rep = run(t, f, Options{Out: out, Jobs: 1, Resume: true, Extra: extra})
+	if rep.Skipped != 0 {
+		t.Errorf("resume with a report added: skipped %d, want 0", rep.Skipped)
+	}
+	rep = run(t, f, Options{Out: out, Jobs: 1, Resume: true, Extra: extra})
+	if rep.Skipped != 4 {
+		t.Errorf("resume with the report, again: skipped %d, want 4", rep.Skipped)
+	}
+	run(t, f, Options{Out: out, Jobs: 2})
+	after = tree(t, out)
 	// The resumed comparison is the one a fresh sweep writes.
 	fresh := filepath.Join(tmp, "fresh")
 	run(t, f, Options{Out: fresh, Jobs: 2})
