@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"slices"
 	"spanwright/geo/input"
 	"spanwright/media"
 	"spanwright/route/estimate"
@@ -114,7 +115,7 @@ func SolveFrom(ctx context.Context, s *site.Site, p *plan.Plan, eng *media.Engin
 		return nil, err
 	}
 	if start != nil {
-		pr.notes = append(pr.notes, startNote(start, rt.StartUnused)...)
+		pr.notes = append(pr.notes, startNote(start, links, rt.StartUnused)...)
 	}
 	r := &Result{Plan: p, Site: s, Hub: hub, Links: links, Legs: rt.Legs, Currency: eng.PriceBook().Currency, Engine: eng,
 		Opened: rt.Opened, Handholes: rt.Handholes, Fill: rt.Fill, ObjectiveCents: rt.ObjectiveCents, LowerBoundCents: rt.LowerBoundCents, Notes: pr.notes}
@@ -213,8 +214,16 @@ func (r *Result) cutOff(buildings []string) {
 const startNoteLinks = 10
 
 // startNote is the note on the links whose start routes were placed afresh (none when every
-// route fitted).
-func startNote(start *routing.Start, unused []string) []string {
+// route fitted), or, when the start has a route for none of the plan's links (another
+// campus's or another plan's folder), the note that it was no start at all.
+func startNote(start *routing.Start, links []site.Link, unused []string) []string {
+	in := map[string]bool{}
+	for _, l := range start.Legs {
+		in[l.Link] = true
+	}
+	if !slices.ContainsFunc(links, func(l site.Link) bool { return in[l.ID] }) && len(links) > 0 {
+		return []string{fmt.Sprintf("started from the routes of %s, which has a route for none of this plan's %d links (another plan's or another campus's folder?): every link was placed afresh", start.From, len(links))}
+	}
 	if len(unused) == 0 {
 		return nil
 	}

@@ -4,6 +4,8 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
+	"io/fs"
+	"os"
 	"path/filepath"
 
 	"spanwright/geo"
@@ -32,6 +34,18 @@ func spansOf(steps []geo.Step) []string {
 // refused. Every problem of the file comes back at once (ParseStart).
 func ReadStart(dir string, maxBytes int64) (*routing.Start, error) {
 	path := filepath.Join(dir, RoutesFile)
+	const want = "an earlier plan's output folder, which holds its " + RoutesFile
+	if fi, err := os.Stat(dir); err != nil {
+		if errors.Is(err, fs.ErrNotExist) {
+			return nil, fmt.Errorf("start routes: %s: no such folder; want %s", dir, want)
+		}
+		return nil, fmt.Errorf("start routes: %w", err)
+	} else if !fi.IsDir() {
+		return nil, fmt.Errorf("start routes: %s is a file, not a folder; want %s", dir, want)
+	}
+	if _, err := os.Stat(path); errors.Is(err, fs.ErrNotExist) {
+		return nil, fmt.Errorf("start routes: folder %s has no %s; want %s", dir, RoutesFile, want)
+	}
 	data, err := input.ReadFile(path, input.Cap(maxBytes, input.DefaultDataMiB))
 	if err != nil {
 		return nil, fmt.Errorf("start routes: %w", err)

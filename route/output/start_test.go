@@ -124,3 +124,23 @@ func TestParseStartProblems(t *testing.T) {
 		t.Errorf("a leg of no spans: %v, %v", st, err)
 	}
 }
+
+// TestReadStartFolder: --start-from takes a plan's output folder; a missing folder, a file
+// and a folder without routes.geojson are each named with what was wanted.
+func TestReadStartFolder(t *testing.T) {
+	dir := t.TempDir()
+	file := filepath.Join(dir, "routes.geojson")
+	os.WriteFile(file, []byte("{}"), 0o644)
+	empty := filepath.Join(dir, "empty")
+	os.Mkdir(empty, 0o755)
+	for _, tc := range []struct{ dir, want string }{
+		{filepath.Join(dir, "nosuch"), "no such folder"},
+		{file, "is a file, not a folder"},
+		{empty, "has no routes.geojson"},
+	} {
+		_, err := ReadStart(tc.dir, 0)
+		if err == nil || !strings.Contains(err.Error(), tc.want) || !strings.Contains(err.Error(), "an earlier plan's output folder") {
+			t.Errorf("ReadStart(%s): %v; want %q and what was wanted", tc.dir, err, tc.want)
+		}
+	}
+}
