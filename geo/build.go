@@ -646,7 +646,7 @@ func (b *builder) planAccess() {
 		b.buf = b.segGrid.query(lo, hi, b.buf)
 		best := b.lateralPlace(f)
 		if best.seg < 0 || best.d > b.maxLat {
-			b.add(bl.Source, bl.ID, "", problemf(ErrUnreachable, "no pathway within %s m of the footprint (MaxLateralM)", fmtM(b.maxLat)))
+			b.add(bl.Source, bl.ID, "", problemf(ErrUnreachable, "no pathway within %s m of the footprint (design: max_lateral_m)", fmtM(b.maxLat)))
 			continue
 		}
 		b.plans[bi] = accessPlan{via: ViaLateral, target: b.target(best.seg, best.t)}
@@ -734,7 +734,7 @@ func (b *builder) planEntrance(bi int, bl Building, ents []int) accessPlan {
 		if !ok {
 			e := b.c.Entrances[ei]
 			b.warns = append(b.warns, warnRec{e.Source, b.entIDs[ei], fmt.Sprintf(
-				"entrance %q of building %q is not within %s m (MaxLateralM) of any pathway; it is not an entrance",
+				"entrance %q of building %q is not within %s m (design: max_lateral_m) of any pathway; it is not an entrance",
 				b.entIDs[ei], bl.ID, fmtM(b.maxLat))})
 			continue
 		}
@@ -749,7 +749,7 @@ func (b *builder) planEntrance(bi int, bl Building, ents []int) accessPlan {
 		return accessPlan{via: ViaEntrance, target: b.entMem[on], entrance: on}
 	}
 	if bestE < 0 {
-		b.add(bl.Source, bl.ID, "", problemf(ErrUnreachable, "no pathway within %s m of its entrance (MaxLateralM)", fmtM(b.maxLat)))
+		b.add(bl.Source, bl.ID, "", problemf(ErrUnreachable, "no pathway within %s m of its entrance (design: max_lateral_m)", fmtM(b.maxLat)))
 		return accessPlan{}
 	}
 	return accessPlan{via: ViaEntrance, target: bestM, entrance: bestE,
@@ -1096,7 +1096,7 @@ func (b *builder) access(n *Network) {
 				if pl.via == ViaEntrance {
 					what = "entrance"
 				}
-				b.add(bl.Source, bl.ID, "", problemf(ErrUnreachable, "no pathway within %s m of the %s (MaxLateralM); nearest is %s m",
+				b.add(bl.Source, bl.ID, "", problemf(ErrUnreachable, "no pathway within %s m of the %s (design: max_lateral_m); nearest is %s m",
 					fmtM(b.maxLat), what, fmtM(a.LateralM)))
 				continue
 			}

@@ -62,7 +62,7 @@ func (b *builder) entrances(n *Network) {
 					src = b.c.Entrances[d.entrance].Source
 				}
 				b.warns = append(b.warns, warnRec{src, e.ID, fmt.Sprintf(
-					"the lateral of building %q to junction %s is %s m, longer than %s m (MaxLateralM); it is not an entrance",
+					"the lateral of building %q to junction %s is %s m, longer than %s m (design: max_lateral_m); it is not an entrance",
 					bl.ID, id, fmtM(e.LateralM), fmtM(b.maxLat))})
 				continue
 			}

@@ -343,7 +343,7 @@ func (b *builder) dangling(n *Network) {
 			seen[id] = true
 			pw := b.c.Pathways[p.pw]
 			b.warns = append(b.warns, warnRec{pw.Source, pw.ID, fmt.Sprintf(
-				"pathway %q ends at %s, %s joined to nothing: no other pathway, structure, entrance or building footprint within %s m (SnapM)",
+				"pathway %q ends at %s, %s joined to nothing: no other pathway, structure, entrance or building footprint within %s m (design: snap_m)",
 				pw.ID, fmtLL(p.ll[v][0]), fmtLL(p.ll[v][1]), fmtM(b.snap))})
 			n.NearMisses = append(n.NearMisses, b.nearMisses(pi, v, id)...)
 		}
