@@ -4,6 +4,7 @@ import (
 	"cmp"
 	"context"
 	"fmt"
+	"maps"
 	"slices"
 	"strings"
 
@@ -40,7 +41,7 @@ type Routed struct {
 	ConstantCents int64
 	// StartUnused lists, in link order, the links whose routes in SolveFrom's start did not
 	// fit this plan (another network, hub or medium, a span gone, beyond reach) and were
-	// placed afresh; nil without a start.
+	// placed afresh, each as its ID and why in brackets; nil without a start.
 	StartUnused []string
 }
 
@@ -79,7 +80,7 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 		return nil, err
 	}
 	opt := optimize.Settings{Objective: m.design.Objective}
-	var unfit []int
+	var unfit map[int]string
 	if start != nil {
 		opt.Start, unfit = startRoutes(s, lay, prob, start)
 	}
@@ -92,10 +93,13 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 	}
 	r := &Routed{ObjectiveCents: sol.TotalCents, LowerBoundCents: sol.LowerBoundCents, Fill: fillReport(s, prob, sol)}
 	if start != nil {
-		unfit = append(unfit, sol.StartUnused...)
-		slices.Sort(unfit)
-		for _, d := range slices.Compact(unfit) {
-			r.StartUnused = append(r.StartUnused, links[d].ID)
+		for _, d := range sol.StartUnused {
+			if _, ok := unfit[d]; !ok {
+				unfit[d] = "it does not fit this plan's rules or prices (a span its medium may not use, a duct with no room, or new trench not allowed)"
+			}
+		}
+		for _, d := range slices.Sorted(maps.Keys(unfit)) {
+			r.StartUnused = append(r.StartUnused, links[d].ID+" ("+unfit[d]+")")
 		}
 	}
 	for _, e := range sol.Opened {

@@ -1,6 +1,7 @@
 package routing
 
 import (
+	"fmt"
 	"slices"
 
 	"spanwright/route/optimize"
@@ -35,7 +36,7 @@ type StartLeg struct {
 // without its primary. Those start as Option -1 (placed afresh by the optimizer, which then
 // does not report them) and are reported here instead. A link without a leg in the start is
 // placed afresh and not reported.
-func startRoutes(s *site.Site, lay *layout, prob *optimize.Problem, start *Start) ([]optimize.StartRoute, []int) {
+func startRoutes(s *site.Site, lay *layout, prob *optimize.Problem, start *Start) ([]optimize.StartRoute, map[int]string) {
 	net := s.Net
 	spanAt := make(map[string]int, len(net.Spans))
 	for i := range net.Spans {
@@ -78,19 +79,22 @@ func startRoutes(s *site.Site, lay *layout, prob *optimize.Problem, start *Start
 	}
 	// walk follows spans from node from and ends at node to, joining them by extra edges
 	// where they do not meet; the hops are returned from to back to from.
-	walk := func(from, to int, spans []string) ([]optimize.Hop, bool) {
+	walk := func(from, to int, spans []string) ([]optimize.Hop, string) {
 		u := from
 		var hops []optimize.Hop
-		for _, id := range spans {
+		for i, id := range spans {
 			e, ok := spanAt[id]
 			if !ok {
-				return nil, false
+				return nil, fmt.Sprintf("span %s is not on this campus", id)
 			}
 			a, b := lay.spanEnds[e][0], lay.spanEnds[e][1]
 			if u != a && u != b {
 				hs, v, ok := join(u, a, b)
 				if !ok {
-					return nil, false
+					if i == 0 {
+						return nil, fmt.Sprintf("its first span %s does not start at the link's building", id)
+					}
+					return nil, fmt.Sprintf("span %s does not meet span %s before it", id, spans[i-1])
 				}
 				hops, u = append(hops, hs...), v
 			}
@@ -103,19 +107,19 @@ func startRoutes(s *site.Site, lay *layout, prob *optimize.Problem, start *Start
 		if u != to {
 			hs, _, ok := join(u, to)
 			if !ok {
-				return nil, false
+				return nil, "it does not end at the link's other building"
 			}
 			hops = append(hops, hs...)
 		}
 		if len(hops) == 0 {
-			return nil, false
+			return nil, "it has no hop"
 		}
 		// Back to front, each hop turned round: from to to from.
 		out := make([]optimize.Hop, len(hops))
 		for i, h := range hops {
 			out[len(hops)-1-i] = optimize.Hop{Edge: h.Edge, Forward: !h.Forward}
 		}
-		return out, true
+		return out, ""
 	}
 	type pair struct{ primary, diverse *StartLeg }
 	byLink := map[string]*pair{}
@@ -134,7 +138,7 @@ func startRoutes(s *site.Site, lay *layout, prob *optimize.Problem, start *Start
 		}
 	}
 	out := make([]optimize.StartRoute, len(prob.Demands))
-	var unfit []int
+	unfit := map[int]string{}
 	for d := range prob.Demands {
 		dm := &prob.Demands[d]
 		out[d] = optimize.StartRoute{ID: dm.ID, Option: -1}
@@ -142,9 +146,9 @@ func startRoutes(s *site.Site, lay *layout, prob *optimize.Problem, start *Start
 		if p == nil || (p.primary == nil && p.diverse == nil) {
 			continue
 		}
-		r, ok := startRoute(dm, p.primary, p.diverse, walk)
-		if !ok {
-			unfit = append(unfit, d)
+		r, why := startRoute(dm, p.primary, p.diverse, walk)
+		if why != "" {
+			unfit[d] = why
 			continue
 		}
 		out[d] = r
@@ -157,10 +161,13 @@ func startRoutes(s *site.Site, lay *layout, prob *optimize.Problem, start *Start
 // primary's medium (the optimizer gives a pair one medium; the rules may choose another for
 // the diverse leg on its own facts). The legs run from the
 // link's from building (the demand's Target) to its to building (Source); walk turns them.
-func startRoute(dm *optimize.Demand, primary, diverse *StartLeg, walk func(from, to int, spans []string) ([]optimize.Hop, bool)) (optimize.StartRoute, bool) {
+func startRoute(dm *optimize.Demand, primary, diverse *StartLeg, walk func(from, to int, spans []string) ([]optimize.Hop, string)) (optimize.StartRoute, string) {
 	r := optimize.StartRoute{ID: dm.ID, Option: -1}
-	if primary == nil || (diverse != nil && !dm.Diverse) {
-		return r, false
+	switch {
+	case primary == nil:
+		return r, "a diverse leg without its primary"
+	case diverse != nil && !dm.Diverse:
+		return r, "a diverse leg, and the link is not diverse in this plan"
 	}
 	for o := range dm.Options {
 		if dm.Options[o].Name == primary.Medium {
@@ -169,17 +176,17 @@ func startRoute(dm *optimize.Demand, primary, diverse *StartLeg, walk func(from,
 		}
 	}
 	if r.Option < 0 {
-		return r, false
+		return r, fmt.Sprintf("medium %s is not one this link may use in this plan", primary.Medium)
 	}
 	for _, l := range []*StartLeg{primary, diverse} {
 		if l == nil {
 			continue
 		}
-		hops, ok := walk(dm.Target, dm.Source, l.Spans)
-		if !ok {
-			return optimize.StartRoute{ID: dm.ID, Option: -1}, false
+		hops, why := walk(dm.Target, dm.Source, l.Spans)
+		if why != "" {
+			return optimize.StartRoute{ID: dm.ID, Option: -1}, l.Leg + " leg: " + why
 		}
 		r.Legs = append(r.Legs, hops)
 	}
-	return r, true
+	return r, ""
 }

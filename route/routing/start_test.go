@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"slices"
+	"strings"
 	"testing"
 	"testing/fstest"
 
@@ -88,8 +89,8 @@ func TestStartRoutesRebuildsSolution(t *testing.T) {
 			st := startOfSolution(nSpans, prob, sol)
 			got, unfit := startRoutes(tc.s, lay, prob, st)
 			want := optimize.StartFrom(sol)
-			if len(unfit) > 0 {
-				t.Errorf("%d links reported not to fit their own routes, first %s", len(unfit), prob.Demands[unfit[0]].ID)
+			for d, why := range unfit {
+				t.Errorf("link %s reported not to fit its own route: %s", prob.Demands[d].ID, why)
 			}
 			for d := range want {
 				if fmt.Sprint(got[d]) != fmt.Sprint(want[d]) {
@@ -108,10 +109,18 @@ func TestStartRoutesRebuildsSolution(t *testing.T) {
 			slices.Reverse(broken.Legs[last].Spans) // walked from the wrong end
 			got, unfit = startRoutes(tc.s, lay, prob, broken)
 			var names []string
-			for _, d := range unfit {
+			for d, why := range unfit {
 				names = append(names, prob.Demands[d].ID)
 				if got[d].Option != -1 || got[d].Legs != nil {
 					t.Errorf("demand %s does not fit but starts from %v", prob.Demands[d].ID, got[d])
+				}
+				// The reason names what is wrong: the span that is not there, or the span
+				// that does not start at the link's building (walked from the wrong end).
+				if prob.Demands[d].ID == broken.Legs[0].Link && !strings.Contains(why, "span no such span is not on this campus") {
+					t.Errorf("link %s: reason %q, want the missing span named", prob.Demands[d].ID, why)
+				}
+				if prob.Demands[d].ID != broken.Legs[0].Link && !strings.Contains(why, "does not start at the link's building") && !strings.Contains(why, "does not meet") {
+					t.Errorf("link %s: reason %q, want the span out of place named", prob.Demands[d].ID, why)
 				}
 			}
 			wantNames := []string{broken.Legs[0].Link}
