@@ -151,6 +151,7 @@ type pullRow struct {
 	Other     string
 	Rated     string
 	BarW      string
+	Pct       string // the tension's share of the rating, as text beside the bar
 	SWBP      string
 	Added     string
 	Over      bool
@@ -949,7 +950,7 @@ func pullRows(r *route.Result, opt Options) ([]pullRow, int, listed) {
 		row := pullRow{Link: l.Link.ID, Leg: l.Name, Seq: p.Seq, From: p.From, To: p.To, Spans: strings.Join(p.Spans, " "),
 			Length: opt.length(p.LengthM), Bends: strconv.FormatFloat(p.BendDeg, 'f', 0, 64) + "°", Feed: p.FeedAt,
 			Tension: force(p.TensionN), Other: force(p.OtherN), Rated: force(p.RatedN),
-			BarW: num(math.Min(100*ratio(p), 100)), SWBP: group(strconv.FormatFloat(p.SWBPNPerM, 'f', 0, 64)),
+			BarW: num(math.Min(100*ratio(p), 100)), Pct: pct(ratio(p)), SWBP: group(strconv.FormatFloat(p.SWBPNPerM, 'f', 0, 64)),
 			Added: strings.Join(added, ", "), Over: !p.WithinRating, Reason: p.Reason}
 		out[i] = row
 	}
@@ -1000,6 +1001,7 @@ func (r pullRow) HTML() template.HTML {
 	td(&p, "n", r.Rated)
 	p.w(`<td class="margin">`)
 	fillBar(&p, r.BarW, r.Over, "")
+	p.w(" ", t(r.Pct))
 	if r.Over {
 		p.w(" <b>over</b>")
 	}
