@@ -59,6 +59,9 @@ var ErrInfeasible = errors.New("some links are infeasible")
 type InfeasibleError struct{ Legs []string }
 
 func (e *InfeasibleError) Error() string {
+	if len(e.Legs) == 1 {
+		return fmt.Sprintf("1 infeasible link leg: %v", e.Legs)
+	}
 	return fmt.Sprintf("%d infeasible link legs: %v", len(e.Legs), e.Legs)
 }
 

@@ -543,7 +543,7 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 		fmt.Fprintf(w, "note: %s\n", t(n))
 	}
 	if s.Infeasible > 0 {
-		fmt.Fprintf(w, "%d legs infeasible:\n", s.Infeasible)
+		fmt.Fprintf(w, "%s infeasible:\n", countOf(s.Infeasible, "leg", "legs"))
 		for _, l := range r.Legs {
 			if !l.Feasible {
 				fmt.Fprintf(w, "  %s %s: %s\n", t(l.Link.ID), t(l.Name), t(l.Reason))
@@ -597,7 +597,7 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 	e := r.Estimate
 	if e == nil || e.BOM == nil {
 		if s.WarningCount > 0 {
-			fmt.Fprintf(w, "%d warnings (see summary.json)\n", s.WarningCount)
+			fmt.Fprintf(w, "%s (see summary.json)\n", countOf(s.WarningCount, "warning", "warnings"))
 		}
 		return nil
 	}
@@ -637,7 +637,7 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 		fmt.Fprintf(w, "budget %s %s: %s by %s (%.1f %%)\n", media.FormatCents(s.BudgetCents), t(b.Currency), word, media.FormatCents(over), math.Abs(s.OverBudgetPct))
 	}
 	if s.WarningCount > 0 {
-		fmt.Fprintf(w, "%d warnings (see summary.json)\n", s.WarningCount)
+		fmt.Fprintf(w, "%s (see summary.json)\n", countOf(s.WarningCount, "warning", "warnings"))
 	}
 	if s.DemoPrices != "" {
 		fmt.Fprintf(w, "warning: %s\n", s.DemoPrices)
@@ -734,4 +734,12 @@ func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
 		fmt.Fprintf(w, "  warning: %s\n", t(m))
 	}
 	return nil
+}
+
+// countOf is n and the noun that goes with it: "1 leg", "2 legs".
+func countOf(n int, one, many string) string {
+	if n == 1 {
+		return "1 " + one
+	}
+	return strconv.Itoa(n) + " " + many
 }
