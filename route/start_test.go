@@ -25,7 +25,9 @@ func TestStartFromAnotherPlan(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if !slices.ContainsFunc(r.Notes, func(n string) bool { return strings.Contains(n, "elsewhere, which has a route for none of this plan's") }) {
+	if !slices.ContainsFunc(r.Notes, func(n string) bool {
+		return strings.Contains(n, "elsewhere, which has a route for none of this plan's")
+	}) {
 		t.Errorf("notes %q: want one saying the start has a route for none of the links", r.Notes)
 	}
 }

@@ -65,16 +65,38 @@ type bounder struct {
 	pt *planTree // nil for the plain tree of costTree
 }
 
-// weight returns the weight the tree gave edge e, whose base weight is base[e].
+// treeWeight returns the weight the tree gave edge e, whose base weight is base[e].
 func (sv *solver) treeWeight(b bounder, base []int64, e int32) int64 {
 	w := base[e]
 	if b.pt != nil {
-		if pi := sv.propIdx[e]; pi >= 0 && !b.pt.freeAt[pi] {
-			w += sv.fixedE[e]
-		}
+		w += sv.fixedIn(b.pt.freeAt, e)
 	}
 	return w
 }
+
+// fixedIn is what a plan tree built with the free edges freeAt (per proposed edge) charges on
+// edge e besides its base weight: FixedCents on a proposed edge not free in it, else 0.
+func (sv *solver) fixedIn(freeAt []bool, e int32) int64 {
+	if pi := sv.propIdx[e]; pi >= 0 && !freeAt[pi] {
+		return sv.fixedE[e]
+	}
+	return 0
+}
+
+// planWeight is the weight function of a plan tree over the base weights base with the free
+// edges freeAt: base plus fixedIn, unusable where base is negative.
+func (sv *solver) planWeight(base []int64, freeAt []bool) func(e int32) (int64, bool) {
+	return func(e int32) (int64, bool) {
+		b := base[e]
+		if b < 0 {
+			return 0, false
+		}
+		return b + sv.fixedIn(freeAt, e), true
+	}
+}
+
+// freeKey is proposed edge e's term in the set hashes of free edges (freeHash, planTree.hash).
+func freeKey(e int32) uint64 { return mix(uint64(e), 17) }
 
 // freeNow reports whether proposed edge e costs no FixedCents to the searches.
 func (sv *solver) freeNow(e int32) bool { return sv.st.count[e] > 0 || sv.phantom[e] }
@@ -85,7 +107,7 @@ func (sv *solver) freeChanged(e int32, free bool) {
 	if pi < 0 {
 		return
 	}
-	sv.freeHash ^= mix(uint64(e), 17)
+	sv.freeHash ^= freeKey(e)
 	for _, pt := range sv.planList {
 		switch {
 		case free && !pt.freeAt[pi]:
@@ -148,7 +170,7 @@ func (sv *solver) recount() {
 	sv.freeHash = 0
 	for _, e := range sv.proposed {
 		if sv.freeNow(e) {
-			sv.freeHash ^= mix(uint64(e), 17)
+			sv.freeHash ^= freeKey(e)
 		}
 	}
 	for _, pt := range sv.planList {
@@ -227,17 +249,7 @@ func (sv *solver) bound(anchor, prof int) bounder {
 		pt.freeAt[pi] = sv.freeNow(e)
 	}
 	pt.hash = sv.freeHash
-	base := sv.profBase[prof]
-	pt.t = buildTreeInto(pt.t, sv.srch, anchor, func(e int32) (int64, bool) {
-		b := base[e]
-		if b < 0 {
-			return 0, false
-		}
-		if pi := sv.propIdx[e]; pi >= 0 && !pt.freeAt[pi] {
-			b += sv.fixedE[e]
-		}
-		return b, true
-	})
+	pt.t = buildTreeInto(pt.t, sv.srch, anchor, sv.planWeight(sv.profBase[prof], pt.freeAt))
 	return bounder{t: pt.t, pt: pt}
 }
 
@@ -247,17 +259,7 @@ func (sv *solver) bound(anchor, prof int) bounder {
 // leaves the exact shortest-path tree of the new weights.
 func (sv *solver) freeUp(pt *planTree) {
 	t, net, root := pt.t, sv.net, pt.anchor
-	base := sv.profBase[pt.prof]
-	w := func(e int32) (int64, bool) {
-		b := base[e]
-		if b < 0 {
-			return 0, false
-		}
-		if pi := sv.propIdx[e]; pi >= 0 && !pt.freeAt[pi] {
-			b += sv.fixedE[e]
-		}
-		return b, true
-	}
+	w := sv.planWeight(sv.profBase[pt.prof], pt.freeAt)
 	logged := sv.nPhantom > 0
 	h := &sv.upHeap
 	h.reset()
@@ -285,7 +287,7 @@ func (sv *solver) freeUp(pt *planTree) {
 			continue
 		}
 		pt.freeAt[pi] = true
-		pt.hash ^= mix(uint64(e), 17)
+		pt.hash ^= freeKey(e)
 		if logged {
 			pt.undoFree = append(pt.undoFree, pi)
 		}
@@ -323,7 +325,7 @@ func (sv *solver) rollBack(pt *planTree) {
 	for _, pi := range pt.undoFree {
 		e := sv.proposed[pi]
 		pt.freeAt[pi] = false
-		pt.hash ^= mix(uint64(e), 17)
+		pt.hash ^= freeKey(e)
 		if sv.freeNow(e) {
 			pt.bad++
 			pt.pend = append(pt.pend, pi)

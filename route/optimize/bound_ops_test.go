@@ -19,7 +19,7 @@ func checkPlanTree(t *testing.T, sv *solver, pt *planTree, fresh *search[int64],
 	for pi, e := range sv.proposed {
 		f := sv.freeNow(e)
 		if pt.freeAt[pi] {
-			h ^= mix(uint64(e), 17)
+			h ^= freeKey(e)
 		}
 		switch {
 		case f && !pt.freeAt[pi]:
@@ -38,16 +38,7 @@ func checkPlanTree(t *testing.T, sv *solver, pt *planTree, fresh *search[int64],
 		t.Fatalf("%s: hash mismatch", when)
 	}
 	base := sv.profBase[pt.prof]
-	w := func(e int32) (int64, bool) {
-		b := base[e]
-		if b < 0 {
-			return 0, false
-		}
-		if pi := sv.propIdx[e]; pi >= 0 && !pt.freeAt[pi] {
-			b += sv.fixedE[e]
-		}
-		return b, true
-	}
+	w := sv.planWeight(base, pt.freeAt)
 	want := buildTree(fresh, pt.anchor, w)
 	for v := range want.dist {
 		if pt.t.dist[v] != want.dist[v] {
@@ -69,23 +60,13 @@ func checkPlanTree(t *testing.T, sv *solver, pt *planTree, fresh *search[int64],
 		var kh uint64
 		for pi, e := range sv.proposed {
 			if kt.freeAt[pi] {
-				kh ^= mix(uint64(e), 17)
+				kh ^= freeKey(e)
 			}
 		}
 		if kh != kt.hash {
 			t.Fatalf("%s: kept hash mismatch", when)
 		}
-		wk := func(e int32) (int64, bool) {
-			b := base[e]
-			if b < 0 {
-				return 0, false
-			}
-			if pi := sv.propIdx[e]; pi >= 0 && !kt.freeAt[pi] {
-				b += sv.fixedE[e]
-			}
-			return b, true
-		}
-		wantK := buildTree(fresh, pt.anchor, wk)
+		wantK := buildTree(fresh, pt.anchor, sv.planWeight(base, kt.freeAt))
 		for v := range wantK.dist {
 			if kt.t.dist[v] != wantK.dist[v] {
 				t.Fatalf("%s: kept tree anchor %d node %d: dist %d, afresh %d", when, pt.anchor, v, kt.t.dist[v], wantK.dist[v])
@@ -218,13 +199,7 @@ func TestPlanTreesOpenStart(t *testing.T) {
 		check("after open start")
 		sv.improve()
 		check("after improve")
-		if !sv.key().less(first.key()) {
-			second := sv.st
-			sv.st = first
-			sv.dropState(second)
-			sv.recount()
-			sv.newEpoch()
-		}
+		sv.keepCheaper(first)
 		check("after swap back")
 		for _, pt := range sv.planList {
 			b := sv.bound(pt.anchor, pt.prof)

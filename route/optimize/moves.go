@@ -927,19 +927,25 @@ func (sv *solver) run() {
 		if sv.stopped() {
 			return
 		}
-		if !sv.key().less(first.key()) {
-			second := sv.st
-			sv.st = first
-			sv.dropState(second)
-			sv.recount()
-			sv.newEpoch()
-		} else {
-			sv.dropState(first)
-		}
+		sv.keepCheaper(first)
 	}
 	if len(sv.proposed) > 0 && len(sv.p.Demands)*len(sv.proposed) <= maxKickWork && !sv.gapClosed() {
 		sv.kicks()
 	}
+}
+
+// keepCheaper keeps the cheaper of the plan first and the current one (the current one on a
+// tie is dropped: first was found first), and drops the other.
+func (sv *solver) keepCheaper(first *state) {
+	if sv.key().less(first.key()) {
+		sv.dropState(first)
+		return
+	}
+	second := sv.st
+	sv.st = first
+	sv.dropState(second)
+	sv.recount()
+	sv.newEpoch()
 }
 
 // maxSecondStart bounds demands × proposed edges for which Solve also starts from the plan with

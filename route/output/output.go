@@ -94,6 +94,20 @@ func Outputs(r *route.Result, opt WriteOptions) []File {
 	return files
 }
 
+// Names lists the names of the files Outputs writes for a plan with or without a bill of
+// materials (bill), in its order: Outputs decides, nothing is rendered.
+func Names(opt WriteOptions, bill bool) []string {
+	r := &route.Result{}
+	if bill {
+		r.Estimate = &estimate.Estimate{BOM: &media.BOM{}}
+	}
+	var names []string
+	for _, f := range Outputs(r, opt) {
+		names = append(names, f.Name)
+	}
+	return names
+}
+
 // named is err with the file's name before it, or ctx's error alone when ctx is done.
 func named(ctx context.Context, name string, err error) error {
 	switch {
@@ -392,6 +406,10 @@ type Summary struct {
 	StartedFrom string `json:"started_from,omitempty"`
 }
 
+// HasBill reports whether the plan the summary describes has a bill of materials (then
+// cost_by_category_cents is an object, possibly empty; without one it is null).
+func (s Summary) HasBill() bool { return s.CostByCategory != nil }
+
 // CostDriver is one of the largest lines of the bill of materials.
 type CostDriver struct {
 	Category string  `json:"category"`
@@ -543,7 +561,7 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 		fmt.Fprintf(w, "note: %s\n", t(n))
 	}
 	if s.Infeasible > 0 {
-		fmt.Fprintf(w, "%s infeasible:\n", countOf(s.Infeasible, "leg", "legs"))
+		fmt.Fprintf(w, "%s infeasible:\n", counted(s.Infeasible, "leg", "legs"))
 		for _, l := range r.Legs {
 			if !l.Feasible {
 				fmt.Fprintf(w, "  %s %s: %s\n", t(l.Link.ID), t(l.Name), t(l.Reason))
@@ -597,7 +615,7 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 	e := r.Estimate
 	if e == nil || e.BOM == nil {
 		if s.WarningCount > 0 {
-			fmt.Fprintf(w, "%s (see summary.json)\n", countOf(s.WarningCount, "warning", "warnings"))
+			fmt.Fprintf(w, "%s (see summary.json)\n", counted(s.WarningCount, "warning", "warnings"))
 		}
 		return nil
 	}
@@ -637,7 +655,7 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 		fmt.Fprintf(w, "budget %s %s: %s by %s (%.1f %%)\n", media.FormatCents(s.BudgetCents), t(b.Currency), word, media.FormatCents(over), math.Abs(s.OverBudgetPct))
 	}
 	if s.WarningCount > 0 {
-		fmt.Fprintf(w, "%s (see summary.json)\n", countOf(s.WarningCount, "warning", "warnings"))
+		fmt.Fprintf(w, "%s (see summary.json)\n", counted(s.WarningCount, "warning", "warnings"))
 	}
 	if s.DemoPrices != "" {
 		fmt.Fprintf(w, "warning: %s\n", s.DemoPrices)
@@ -736,8 +754,8 @@ func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
 	return nil
 }
 
-// countOf is n and the noun that goes with it: "1 leg", "2 legs".
-func countOf(n int, one, many string) string {
+// counted is n and the noun that goes with it: "1 leg", "2 legs".
+func counted(n int, one, many string) string {
 	if n == 1 {
 		return "1 " + one
 	}

@@ -6,6 +6,7 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"strings"
 	"testing"
 
 	"spanwright/route/fileset"
@@ -61,4 +62,23 @@ func TestWriteSet(t *testing.T) {
 		t.Errorf("a failing renderer: error %v after rendering %v; want its error after b.csv and a.json", err, rendered)
 	}
 	same("failed")
+}
+
+// TestNames: the names Outputs writes, as the resumed sweep checks them, follow the write
+// options and whether the plan has a bill.
+func TestNames(t *testing.T) {
+	lean := WriteOptions{SkipGeoPackage: true, SkipWorkbook: true}
+	for _, tc := range []struct {
+		opt  WriteOptions
+		bill bool
+		want string
+	}{
+		{lean, false, "routes.geojson links.csv summary.json"},
+		{lean, true, "routes.geojson links.csv summary.json bom.csv"},
+		{WriteOptions{}, true, "routes.geojson links.csv summary.json plan.gpkg bom.csv bom.xlsx"},
+	} {
+		if got := strings.Join(Names(tc.opt, tc.bill), " "); got != tc.want {
+			t.Errorf("Names(%+v, bill %v) = %s, want %s", tc.opt, tc.bill, got, tc.want)
+		}
+	}
 }

@@ -681,8 +681,8 @@ func sumLine(hash, name string) string {
 
 // resumable reports whether the scenario folder holds a finished plan of the same inputs, and
 // its summary: its inputs.sha256 equal to inputs, and every file this run would write there
-// (the lean set, the workbook and GeoPackage unless skipped, the bill's files when the plan
-// has a bill, and a report when Options.Extra is set), so that a file removed by hand, or a
+// (output.Names for its write options and its bill, and a report when Options.Extra is set),
+// so that a file removed by hand, or a
 // run with --full after one without, plans the scenario again.
 func (r *runner) resumable(dir string, inputs []byte) (output.Summary, bool) {
 	var s output.Summary
@@ -694,17 +694,7 @@ func (r *runner) resumable(dir string, inputs []byte) (output.Summary, bool) {
 	if err != nil || json.Unmarshal(data, &s) != nil {
 		return s, false
 	}
-	want := []string{output.RoutesFile, "links.csv", PlanFile}
-	if !r.opt.Write.SkipGeoPackage {
-		want = append(want, "plan.gpkg")
-	}
-	if s.TotalCents != 0 || len(s.CostByCategory) > 0 {
-		want = append(want, "bom.csv")
-		if !r.opt.Write.SkipWorkbook {
-			want = append(want, "bom.xlsx")
-		}
-	}
-	for _, name := range want {
+	for _, name := range append(output.Names(r.opt.Write, s.HasBill()), PlanFile) {
 		if fi, err := os.Stat(filepath.Join(dir, name)); err != nil || !fi.Mode().IsRegular() {
 			return s, false
 		}

@@ -208,6 +208,12 @@ func Generate(seed uint64, opt Options) *Campus {
 		building string
 		street   int
 	}
+	// toward is the point inside building en's footprint where a lateral from q ends.
+	toward := func(en entry, q [2]float64) [2]float64 {
+		ux, uy := q[0]-en.cx, q[1]-en.cy
+		l := math.Hypot(ux, uy)
+		return [2]float64{en.cx + 0.6*en.half*ux/l, en.cy + 0.6*en.half*uy/l}
+	}
 	// secondFrom is the street vertex a second lateral into building en leaves from, q as
 	// drawn by default; with DiverseEntrances the nearest vertex of another unbroken street
 	// within 150 m of the building's centre, if any.
@@ -319,10 +325,7 @@ func Generate(seed uint64, opt Options) *Campus {
 			// may cross (transit: true).
 			if q := s.pts[1+r2.IntN(len(s.pts)-2)]; q != p && r2.Float64() < 0.15 {
 				q = secondFrom(entries[len(entries)-1], q)
-				ux, uy := q[0]-cx, q[1]-cy
-				l := math.Hypot(ux, uy)
-				e := [2]float64{cx + 0.6*half*ux/l, cy + 0.6*half*uy/l}
-				add(lineFeature([][2]float64{q, e}, []Prop{{"kind", "pathway"}, {"id", id + "-L2"}, {"spare_ducts", r2.IntN(3)}}))
+				add(lineFeature([][2]float64{q, toward(entries[len(entries)-1], q)}, []Prop{{"kind", "pathway"}, {"id", id + "-L2"}, {"spare_ducts", r2.IntN(3)}}))
 				entries[len(entries)-1].second = true
 			}
 			if r2.Float64() < 0.05 {
@@ -345,11 +348,6 @@ func Generate(seed uint64, opt Options) *Campus {
 	if opt.DiverseEntrances {
 		// A second lateral into each cross-connect that has none (drawn last, from the second
 		// stream, so the rest of the campus is as without it).
-		toward := func(en entry, q [2]float64) [2]float64 { // a point inside the footprint
-			ux, uy := q[0]-en.cx, q[1]-en.cy
-			l := math.Hypot(ux, uy)
-			return [2]float64{en.cx + 0.6*en.half*ux/l, en.cy + 0.6*en.half*uy/l}
-		}
 		for _, bi := range roles[:min(3, len(roles))] {
 			en := entries[bi]
 			if !en.first { // reached by a counted lateral only: draw it
