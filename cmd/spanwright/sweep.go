@@ -120,7 +120,7 @@ func runSweep(ctx context.Context, o sweepOptions, stdout, stderr io.Writer) err
 	}
 	prog := newProgress(stderr, o.quiet)
 	so := sweep.Options{Out: o.out, Jobs: o.jobs, Resume: o.resume, Shard: o.shard, Write: o.write, Progress: prog.update,
-		Compare: report.SweepFiles(report.SweepOptions{}), CampusDatabase: o.campusDB, Cold: o.cold}
+		Compare: report.SweepFiles(report.SweepOptions{}), CampusDatabase: o.campusDB, Cold: o.cold, Preflight: true}
 	if o.full {
 		so.Extra = report.Extra(report.Options{Units: o.write.Units})
 	}

@@ -24,8 +24,11 @@
 //
 // An unknown key or a value of the wrong type stops the sweep before it starts, with an
 // *input.Problem (matching ErrInvalid) naming the file, line and column, case ("vary" for an
-// axis) and key; every problem is reported at once. Values of the right type that the plan rejects (an unknown hub, a redundancy
-// that does not exist) fail only their scenario.
+// axis) and key; every problem is reported at once. Values of the right type that the plan rejects (an unknown hub, a
+// rate no application runs at, a price book that is not there) are found with
+// Options.Preflight, which the command sets, before anything is planned or written: every
+// scenario's plan, files, campus, engine and route.Check, every problem at once, each at the
+// value's place in the sweep file (see preflight); without it they fail only their scenario.
 //
 // # Scenarios
 //

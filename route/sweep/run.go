@@ -90,6 +90,10 @@ type Options struct {
 	// default a scenario on the base scenario's network (the same campus files and noding)
 	// starts its search from the base scenario's routes (see Run).
 	Cold bool
+	// Preflight checks the inputs of every scenario of the sweep before anything is planned
+	// or written, and stops the sweep with every problem at once (see preflight) instead of
+	// failing the scenarios one by one as they are planned.
+	Preflight bool
 }
 
 // Progress is the state of a running sweep.
@@ -163,6 +167,14 @@ func (r *Report) count(row Row) {
 func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
 	r, err := newRunner(f, opt)
 	if err != nil {
+		return nil, err
+	}
+	if opt.Preflight {
+		if err := r.preflight(f.Scenarios()); err != nil {
+			return nil, err
+		}
+	}
+	if err := r.makeOut(); err != nil {
 		return nil, err
 	}
 	var mine []Scenario
@@ -303,13 +315,6 @@ func newRunner(f *File, opt Options) (*runner, error) {
 	if info, err := os.Stat(out); err == nil && !info.IsDir() {
 		return nil, &fileset.OutputError{Path: opt.Out, Err: errors.New("it is a file, not a folder")}
 	}
-	if err := os.MkdirAll(out, 0o755); err != nil {
-		return nil, &fileset.OutputError{Path: opt.Out, Err: err}
-	}
-	// A sweep killed while putting its comparison in place left a journal: finish it first.
-	if err := fileset.RecoverFiles(out); err != nil {
-		return nil, err
-	}
 	sweepDir, err := filepath.Abs(f.Dir)
 	if err != nil {
 		return nil, err
@@ -336,6 +341,15 @@ func newRunner(f *File, opt Options) (*runner, error) {
 	r.engines = newOnceCache[*media.Engine](engineCacheSize)
 	r.hashes = newOnceCache[string](hashCacheSize)
 	return r, nil
+}
+
+// makeOut makes the output folder and finishes the journal of a sweep killed while putting
+// its comparison in place.
+func (r *runner) makeOut() error {
+	if err := os.MkdirAll(r.absOut, 0o755); err != nil {
+		return &fileset.OutputError{Path: r.opt.Out, Err: err}
+	}
+	return fileset.RecoverFiles(r.absOut)
 }
 
 // tmpPrefix starts the name of a scenario folder being written; the id follows (it may hold

@@ -1,0 +1,179 @@
+package sweep
+
+import (
+	"errors"
+	"fmt"
+	"path/filepath"
+	"strings"
+
+	"spanwright/geo/input"
+	"spanwright/route"
+	"spanwright/route/plan"
+)
+
+// preflight checks the inputs of every scenario of the sweep (every shard's, so that the
+// tasks of an array job agree) before anything is planned or written (Options.Preflight):
+// each scenario's plan as `spanwright plan` reads it, every file it names (read and hashed,
+// as its inputs.sha256 will list them), its campus, its catalog, rules and price book, and
+// route.Check (the hub, the links, the rates, the prices the plan needs). It returns every
+// problem at once, as an *input.Problems whose every problem matches ErrInvalid, or nil.
+//
+// A problem that an override causes is placed at the override's value in the sweep file,
+// under its axis ("vary") or case, and given once however many scenarios take that value:
+//
+//	sweep.yaml:4:26: vary: prices: cannot read ../../sweeps/missing.yaml: no such file or directory
+//	sweep.yaml:3:24: vary: defaults.rate: rate "800G": no application runs at 800G; the catalog has …
+//
+// A problem of another file (a campus file, a price book an axis names) names that file, as
+// `spanwright plan` would. Any other problem of a scenario's plan names the base plan and
+// the key, and the scenario when not every scenario has it.
+//
+// The sites and engines it builds stay in the runner's caches, so planning reuses them; a
+// sweep over more campus variants than the site cache holds reads some campuses twice.
+func (r *runner) preflight(list []Scenario) error {
+	var out input.Problems
+	seen := map[string]bool{}
+	add := func(p *input.Problem) {
+		p.Class = ErrInvalid
+		if k := p.Error(); !seen[k] {
+			seen[k] = true
+			out.Add(p)
+		}
+	}
+	// Problems of the base plan's keys, by message, with the scenarios that have them.
+	type planProblem struct {
+		p   *input.Problem
+		ids []string
+	}
+	var byText []*planProblem
+	index := map[string]*planProblem{}
+	for _, sc := range list {
+		for _, p := range r.checkScenario(sc) {
+			if p.File != r.f.Base {
+				add(p)
+				continue
+			}
+			k := p.Error()
+			pp := index[k]
+			if pp == nil {
+				pp = &planProblem{p: p}
+				index[k] = pp
+				byText = append(byText, pp)
+			}
+			pp.ids = append(pp.ids, sc.ID)
+		}
+	}
+	for _, pp := range byText {
+		which := ""
+		switch n := len(pp.ids); {
+		case n == len(list):
+		case n == 1:
+			which = "scenario " + pp.ids[0]
+		default:
+			which = fmt.Sprintf("scenario %s and %d more", pp.ids[0], n-1)
+		}
+		if which != "" && pp.p.Item != "" {
+			which += ": "
+		}
+		pp.p.Item = which + pp.p.Item
+		add(pp.p)
+	}
+	out.Sort()
+	return out.Err()
+}
+
+// checkScenario returns the problems of one scenario's inputs, placed as preflight says.
+func (r *runner) checkScenario(sc Scenario) []*input.Problem {
+	planPath := filepath.Join(r.out, sc.ID, PlanFile)
+	data, err := r.planYAML(sc)
+	if err != nil {
+		return []*input.Problem{{File: r.f.Path, Item: "scenario " + sc.ID, Err: err}}
+	}
+	p, err := plan.ParsePlanOptions(planPath, data, plan.LoadOptions{CampusDatabase: r.opt.CampusDatabase})
+	if err != nil {
+		return r.blame(sc, planPath, "", err)
+	}
+	p.MaxInputBytes = r.f.MaxInputBytes
+	var probs []*input.Problem
+	files := []struct {
+		key   string
+		names []string
+	}{{"campus", p.Campus}, {"catalog", []string{p.Catalog}}, {"rules", []string{p.Rules}}, {"prices", []string{p.Prices}}}
+	for _, f := range files {
+		for _, n := range f.names {
+			if n == "" {
+				continue
+			}
+			if _, err := r.hash(p.Path(n)); err != nil {
+				err = fmt.Errorf("cannot read %s: %w", filepath.ToSlash(p.Path(n)), input.Cause(err))
+				probs = append(probs, r.blame(sc, planPath, f.key, err)...)
+			}
+		}
+	}
+	if len(probs) > 0 {
+		return probs // the loaders would only say it again
+	}
+	site, err := r.site(p)
+	if err != nil {
+		probs = append(probs, r.blame(sc, planPath, "campus", err)...)
+	}
+	eng, err := r.engine(p)
+	if err != nil {
+		probs = append(probs, r.blame(sc, planPath, "", err)...)
+	}
+	if len(probs) > 0 {
+		return probs
+	}
+	return r.blame(sc, planPath, "", route.Check(site, p, eng))
+}
+
+// blame places the problems of err, found in scenario sc's plan (at planPath), as preflight
+// says; key is the plan key a problem that names none is about ("" for none).
+func (r *runner) blame(sc Scenario, planPath, key string, err error) []*input.Problem {
+	if err == nil {
+		return nil
+	}
+	var list []*input.Problem
+	var ps *input.Problems
+	var p *input.Problem
+	switch {
+	case errors.As(err, &ps) && error(ps) == err:
+		list = ps.List
+	case errors.As(err, &p) && error(p) == err:
+		list = []*input.Problem{p}
+	default:
+		list = []*input.Problem{{File: planPath, Key: key, Err: err}}
+	}
+	out := make([]*input.Problem, 0, len(list))
+	for _, q := range list {
+		if q.File != planPath && q.File != "" {
+			out = append(out, q) // a problem of another file names it
+			continue
+		}
+		k := q.Key
+		if k == "" {
+			k = key
+		}
+		if o, ok := overrideOf(sc, k); ok {
+			out = append(out, &input.Problem{File: r.f.Path, Line: o.node.Line, Col: o.node.Column, Item: sc.where(),
+				Key: o.Key, Err: q.Err, Value: q.Value})
+			continue
+		}
+		out = append(out, &input.Problem{File: r.f.Base, Item: q.Item, Key: k, Err: q.Err, Value: q.Value})
+	}
+	return out
+}
+
+// overrideOf is the override of sc that sets plan key k, or a section holding it, or a key
+// inside it.
+func overrideOf(sc Scenario, k string) (Override, bool) {
+	if k == "" {
+		return Override{}, false
+	}
+	for _, o := range sc.Set {
+		if o.Key == k || strings.HasPrefix(k, o.Key+".") || strings.HasPrefix(k, o.Key+"[") || strings.HasPrefix(o.Key, k+".") {
+			return o, true
+		}
+	}
+	return Override{}, false
+}

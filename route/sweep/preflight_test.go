@@ -1,0 +1,80 @@
+package sweep
+
+import (
+	"context"
+	"errors"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"spanwright/geo/input"
+)
+
+// TestPreflightRefusesBeforePlanning: with Options.Preflight, a sweep whose axes name a price
+// book that is not there, a rate no application runs at and a hub that is no building stops
+// before anything is planned or written (the output folder is not even made), with every
+// problem at once, each once, at the value's line and column in the sweep file, under its
+// axis or case; without it, the same sweep plans and fails those scenarios one by one (the
+// behaviour the command had, which ran hours before saying so).
+func TestPreflightRefusesBeforePlanning(t *testing.T) {
+	t.Parallel()
+	f := parseInline(t, "vary:\n"+
+		"  prices: [prices-low.yaml, missing.yaml]\n"+
+		"  defaults.rate: [10G, 800G]\n"+
+		"cases:\n"+
+		"  - {name: bad-hub, hub: NOWHERE}")
+	out := filepath.Join(t.TempDir(), "out")
+	rep, err := Run(context.Background(), f, Options{Out: out, Jobs: 2, Preflight: true})
+	if err == nil {
+		t.Fatalf("got no error (%+v), want the sweep refused", rep)
+	}
+	var ps *input.Problems
+	if !errors.As(err, &ps) || !errors.Is(err, ErrInvalid) {
+		t.Fatalf("got %T %v, want *input.Problems matching ErrInvalid", err, err)
+	}
+	lines := strings.Split(err.Error(), "\n")
+	missing := filepath.Join(fixtures, "missing.yaml")
+	abs, _ := filepath.Abs(missing)
+	want := []string{
+		f.Path + ":3:29: vary: prices: cannot read " + filepath.ToSlash(abs) + ": no such file or directory",
+		f.Path + `:4:24: vary: defaults.rate: rate "800G": no application runs at 800G; the catalog has 1G, 10G, 25G, 40G, 100G, 400G`,
+		f.Path + `:6:26: case "bad-hub": hub: want the id of a building, got "NOWHERE", which no building has`,
+	}
+	if strings.Join(lines, "\n") != strings.Join(want, "\n") {
+		t.Errorf("got\n%s\nwant\n%s", err, strings.Join(want, "\n"))
+	}
+	if _, err := os.Stat(out); !errors.Is(err, os.ErrNotExist) {
+		t.Errorf("the refused sweep made its output folder (%v)", err)
+	}
+
+	rep = run(t, f, Options{Out: out, Jobs: 2})
+	if rep.Failed != 2*2+1-1 {
+		t.Errorf("without pre-flight: %d scenarios failed, want 4 (all but the first)", rep.Failed)
+	}
+}
+
+// TestPreflightBasePlanProblem: a problem of the base plan itself (a link to a building the
+// campus does not have), found in every scenario, is named once, in the base plan, by its key.
+func TestPreflightBasePlanProblem(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	campus, err := filepath.Abs("../../testdata/demo/campus.geojson")
+	if err != nil {
+		t.Fatal(err)
+	}
+	base := filepath.Join(dir, "plan.yaml")
+	plan := "campus: [" + campus + "]\nhub: ADM\nlinks:\n  - {to: NOSUCH}\n"
+	if err := os.WriteFile(base, []byte(plan), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	f, err := Parse(filepath.Join(dir, "s.yaml"), []byte("base: plan.yaml\nvary:\n  defaults.rate: [10G, 25G]\n"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, err = Run(context.Background(), f, Options{Out: filepath.Join(dir, "out"), Preflight: true})
+	if err == nil || strings.Count(err.Error(), "\n") != 0 || !strings.HasPrefix(err.Error(), base+": links[0]") ||
+		!strings.Contains(err.Error(), "NOSUCH") {
+		t.Errorf("got %v, want one problem of %s at links[0] naming NOSUCH", err, base)
+	}
+}
