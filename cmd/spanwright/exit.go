@@ -1,9 +1,11 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"slices"
 	"strings"
+	"syscall"
 )
 
 // Exit statuses. 130 and 143 (stopped by a signal) are set by main.
@@ -91,4 +93,34 @@ func exitTableMarkdown() string {
 		fmt.Fprintf(&b, "| %d | %s | %s |\n", s.Code, strings.ReplaceAll(s.Meaning, "--out", "`--out`"), who)
 	}
 	return b.String()
+}
+
+// stopped is the error of a run stopped by its context (a signal): what says what it
+// wrote ("nothing written"). It wraps the context's error, for errors.Is and the exit status,
+// without printing it: main prints a stopped run as one plain line (stopLine).
+type stopped struct {
+	what string
+	err  error
+}
+
+func (e stopped) Error() string { return "stopped, " + e.what }
+func (e stopped) Unwrap() error { return e.err }
+
+// stopLine is the one line main prints, after "spanwright: ", when a signal stopped the run
+// with err: which signal, and what the run wrote (nothing, unless err is a stopped that says
+// otherwise).
+func stopLine(sig syscall.Signal, err error) string {
+	name := sig.String()
+	switch sig {
+	case syscall.SIGINT:
+		name = "Ctrl-C (SIGINT)"
+	case syscall.SIGTERM:
+		name = "SIGTERM"
+	}
+	what := "nothing written"
+	var st stopped
+	if errors.As(err, &st) {
+		what = st.what
+	}
+	return "stopped by " + name + ": " + what
 }

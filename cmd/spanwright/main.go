@@ -29,13 +29,16 @@ func main() {
 	escape.FlushTerminal(app.Writer)
 	signal.Stop(sigs)
 	cancel()
+	code := exitCode(err)
 	if err != nil {
-		fmt.Fprintf(escape.NewTerminal(os.Stderr), "spanwright: %v\n", err)
+		msg := err.Error()
+		if s, ok := got.Load().(syscall.Signal); ok && errors.Is(err, context.Canceled) {
+			// One plain line: which signal, and what was written; not the context's "canceled".
+			msg = stopLine(s, err)
+			code = 128 + int(s) // the shell's convention: 130 for Ctrl-C, 143 for SIGTERM
+		}
+		fmt.Fprintf(escape.NewTerminal(os.Stderr), "spanwright: %s\n", msg)
 	}
 	stopProfile()
-	code := exitCode(err)
-	if s, ok := got.Load().(syscall.Signal); ok && err != nil && errors.Is(err, context.Canceled) {
-		code = 128 + int(s) // the shell's convention: 130 for Ctrl-C, 143 for SIGTERM
-	}
 	os.Exit(code)
 }

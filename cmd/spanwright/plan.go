@@ -83,7 +83,7 @@ func runPlan(ctx context.Context, fsys fs.FS, p *plan.Plan, out string, run plan
 	opt := run.write
 	defer func() {
 		if err != nil && ctx.Err() != nil && errors.Is(err, ctx.Err()) {
-			err = fmt.Errorf("stopped, nothing written: %w", err)
+			err = stopped{what: "nothing written", err: err}
 		}
 	}()
 	site, err := site.Load(ctx, fsys, campusPaths(p), siteOptions(p))

@@ -125,13 +125,30 @@ func runSweep(ctx context.Context, o sweepOptions, stdout, stderr io.Writer) err
 		so.Extra = report.Extra(report.Options{Units: o.write.Units})
 	}
 	rep, err := sweep.Run(ctx, f, so)
-	prog.finish()
+	prog.finish(err == nil)
 	if err != nil {
+		if ctx.Err() != nil && errors.Is(err, ctx.Err()) {
+			return stopped{what: sweepStopped(rep, o.out), err: err}
+		}
 		return err
 	}
 	sort.Strings(rep.Files)
 	printReport(stdout, rep, o.shard)
 	return outcome(rep)
+}
+
+// sweepStopped says what a sweep stopped by its context left: the scenario folders it
+// finished (each whole; rep is nil when it stopped before the first), and how to go on.
+func sweepStopped(rep *sweep.Report, out string) string {
+	n := 0
+	if rep != nil {
+		n = rep.OK + rep.Infeasible + rep.Failed - rep.Skipped
+	}
+	if n == 0 {
+		return "no scenario written; no comparison written"
+	}
+	return fmt.Sprintf("%s written to %s, each whole; no comparison written; run the same command with --resume to finish",
+		scenarios(n), escape.Terminal(out))
 }
 
 // outcome turns a finished run's report into the command's error: failed scenarios are
@@ -177,11 +194,14 @@ func (e invalid) Is(target error) bool { return target == errInvalid }
 func (e invalid) Unwrap() error        { return e.error }
 
 // progress shows a sweep's progress on stderr: a bar on a terminal, a line every
-// plainEvery otherwise, nothing when quiet.
+// plainEvery otherwise, nothing when quiet. Its rate and time left count only the scenarios
+// planned in this run: those --resume keeps take no time and would make both look better
+// than they are. The time left assumes that every scenario not yet reached is planned.
 type progress struct {
 	w     io.Writer
 	quiet bool
 	tty   bool
+	now   func() time.Time // time.Now; a test's clock in the tests
 	start time.Time
 	last  time.Time
 	bar   *progressbar.ProgressBar
@@ -192,7 +212,8 @@ type progress struct {
 const plainEvery = 10 * time.Second
 
 func newProgress(w io.Writer, quiet bool) *progress {
-	p := &progress{w: w, quiet: quiet, start: time.Now()}
+	p := &progress{w: w, quiet: quiet, now: time.Now}
+	p.start = p.now()
 	p.last = p.start
 	if f, ok := w.(*os.File); ok && term.IsTerminal(int(f.Fd())) {
 		p.tty = true
@@ -200,12 +221,16 @@ func newProgress(w io.Writer, quiet bool) *progress {
 	return p
 }
 
+// planned is how many scenarios of s were planned in this run, not kept.
+func planned(s sweep.Progress) int { return s.Done - s.Skipped }
+
 func (p *progress) update(s sweep.Progress) {
 	p.state = s
 	if p.quiet {
 		return
 	}
 	if p.tty {
+		// The bar counts the scenarios to plan: each one kept takes one off its length.
 		if p.bar == nil {
 			p.bar = progressbar.NewOptions(s.Total, progressbar.OptionSetWriter(p.w),
 				progressbar.OptionSetDescription("sweep"), progressbar.OptionShowCount(),
@@ -213,28 +238,46 @@ func (p *progress) update(s sweep.Progress) {
 				progressbar.OptionSetPredictTime(true), progressbar.OptionThrottle(100*time.Millisecond),
 				progressbar.OptionClearOnFinish())
 		}
-		p.bar.Set(s.Done)
+		if s.Skipped > 0 {
+			p.bar.Describe(fmt.Sprintf("sweep (%d kept)", s.Skipped))
+		}
+		p.bar.ChangeMax(s.Total - s.Skipped)
+		p.bar.Set(planned(s))
 		return
 	}
-	if now := time.Now(); now.Sub(p.last) >= plainEvery && s.Done < s.Total {
+	if now := p.now(); now.Sub(p.last) >= plainEvery && s.Done < s.Total {
 		p.last = now
 		el := now.Sub(p.start).Seconds()
-		rate := float64(s.Done) / el
-		left := time.Duration(float64(s.Total-s.Done)/rate) * time.Second
-		fmt.Fprintf(p.w, "sweep: %d/%d scenarios, %.1f per second, about %s left\n", s.Done, s.Total, rate, left.Round(time.Second))
+		rate := float64(planned(s)) / el
+		line := fmt.Sprintf("sweep: %d/%d scenarios", s.Done, s.Total)
+		if s.Skipped > 0 {
+			line += fmt.Sprintf(" (%d kept)", s.Skipped)
+		}
+		if rate > 0 {
+			left := time.Duration(float64(s.Total-s.Done)/rate) * time.Second
+			line += fmt.Sprintf(", %.1f planned per second, about %s left", rate, left.Round(time.Second))
+		}
+		fmt.Fprintln(p.w, line)
 	}
 }
 
-func (p *progress) finish() {
+// finish ends the progress: the bar is cleared and, when the sweep ran to its end, one line
+// says how many scenarios were planned and how fast. A stopped sweep's one line is the
+// error main prints.
+func (p *progress) finish(done bool) {
 	if p.quiet {
 		return
 	}
 	if p.bar != nil {
-		p.bar.Finish()
+		if done {
+			p.bar.Finish()
+		} else {
+			p.bar.Clear()
+		}
 	}
-	el := time.Since(p.start)
-	if p.state.Done > 0 {
-		fmt.Fprintf(p.w, "sweep: %s in %s, %.1f per second\n", scenarios(p.state.Done), el.Round(time.Millisecond), float64(p.state.Done)/el.Seconds())
+	el := p.now().Sub(p.start)
+	if n := planned(p.state); done && n > 0 {
+		fmt.Fprintf(p.w, "sweep: %s planned in %s, %.1f per second\n", scenarios(n), el.Round(time.Millisecond), float64(n)/el.Seconds())
 	}
 }
 

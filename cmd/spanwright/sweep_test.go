@@ -2,11 +2,15 @@ package main
 
 import (
 	"bytes"
+	"io"
 	"os"
 	"path/filepath"
 	"regexp"
 	"strings"
 	"testing"
+	"time"
+
+	"spanwright/route/sweep"
 )
 
 const sweepFixtures = "../../testdata/sweep"
@@ -14,13 +18,12 @@ const sweepFixtures = "../../testdata/sweep"
 func TestSweepCommand(t *testing.T) {
 	t.Parallel()
 	out := t.TempDir()
-	stdout, msg, code := run(t, "sweep", filepath.Join(sweepFixtures, "small.yaml"), "--out", out, "--jobs", "2")
-	if code != exitInvalid {
-		t.Errorf("exit status: got %d, want %d (a scenario failed)\n%s", code, exitInvalid, msg)
+	stdout, msg, code := run(t, "sweep", filepath.Join(sweepFixtures, "valid.yaml"), "--out", out, "--jobs", "2")
+	if code != exitInfeasible {
+		t.Errorf("exit status: got %d, want %d (a scenario has infeasible legs)\n%s", code, exitInfeasible, msg)
 	}
 	for _, want := range []string{
-		"sweep: 6 scenarios: 4 ok, 1 with infeasible legs, 1 failed\n",
-		`  failed bad-hub-0d4d7434: bad-hub-0d4d7434/plan.yaml:8:6: hub: want the id of a building, got "NOWHERE", which no building has`,
+		"sweep: 5 scenarios: 4 ok, 1 with infeasible legs, 0 failed\n",
 		"warning: 5 scenarios priced by the invented demo price book built into spanwright",
 		filepath.Join(out, "compare.xlsx"),
 	} {
@@ -28,30 +31,30 @@ func TestSweepCommand(t *testing.T) {
 			t.Errorf("stdout lacks %q:\n%s", want, stdout)
 		}
 	}
-	if !strings.Contains(msg, "sweep: 6 scenarios in ") || !strings.Contains(msg, "some scenarios failed: 1 of 6 scenarios") {
-		t.Errorf("stderr and error: got %q, want the closing progress line and the failure", msg)
+	if !strings.Contains(msg, "sweep: 5 scenarios planned in ") || !strings.Contains(msg, "1 of 5 scenarios have infeasible legs") {
+		t.Errorf("stderr and error: got %q, want the closing progress line and the infeasible legs", msg)
 	}
 
 	// Resume keeps everything; --quiet prints no progress.
-	stdout, msg, code = run(t, "sweep", filepath.Join(sweepFixtures, "small.yaml"), "--out", out, "--resume", "--quiet")
-	if code != exitInvalid || !strings.Contains(stdout, "(5 unchanged, kept)") || strings.Contains(msg, "per second") {
+	stdout, msg, code = run(t, "sweep", filepath.Join(sweepFixtures, "valid.yaml"), "--out", out, "--resume", "--quiet")
+	if code != exitInfeasible || !strings.Contains(stdout, "(5 unchanged, kept)") || strings.Contains(msg, "per second") {
 		t.Errorf("resume: got status %d, stdout %q, stderr %q", code, stdout, msg)
 	}
 
 	// Shards and merge give the same comparison.
 	shards := t.TempDir()
 	for _, s := range []string{"1/2", "2/2"} {
-		stdout, _, code := run(t, "sweep", filepath.Join(sweepFixtures, "small.yaml"), "--out", shards, "--shard", s, "--quiet")
-		if code != exitInvalid && code != exitInfeasible && code != exitOK {
+		stdout, _, code := run(t, "sweep", filepath.Join(sweepFixtures, "valid.yaml"), "--out", shards, "--shard", s, "--quiet")
+		if code != exitInfeasible && code != exitOK {
 			t.Errorf("shard %s: status %d", s, code)
 		}
-		if !strings.Contains(stdout, "shard "+s+": 3 of 6 scenarios") || !strings.Contains(stdout, "spanwright merge") {
+		if n := map[string]string{"1/2": "3", "2/2": "2"}[s]; !strings.Contains(stdout, "shard "+s+": "+n+" of 5 scenarios") || !strings.Contains(stdout, "spanwright merge") {
 			t.Errorf("shard %s stdout: %q", s, stdout)
 		}
 	}
 	merged := filepath.Join(t.TempDir(), "all")
 	stdout, msg, code = run(t, "merge", shards, "--out", merged)
-	if code != exitInvalid || !strings.Contains(stdout, "sweep: 6 scenarios: 4 ok, 1 with infeasible legs, 1 failed") {
+	if code != exitInfeasible || !strings.Contains(stdout, "sweep: 5 scenarios: 4 ok, 1 with infeasible legs, 0 failed") {
 		t.Errorf("merge: status %d, stdout %q, %s", code, stdout, msg)
 	}
 	for _, name := range []string{"compare.csv", "compare.md", "compare.xlsx", "rows.jsonl"} {
@@ -77,7 +80,7 @@ func TestSweepCommand(t *testing.T) {
 			t.Errorf("merged compare.html links %s: %v", l[1], err)
 		}
 	}
-	if _, _, code := run(t, "merge", shards, "--out", shards); code != exitInvalid {
+	if _, _, code := run(t, "merge", shards, "--out", shards); code != exitInfeasible {
 		t.Errorf("merge in place: status %d", code)
 	}
 	a, err1 := os.ReadFile(filepath.Join(out, "compare.html"))
@@ -112,6 +115,9 @@ func TestSweepExitStatus(t *testing.T) {
 		{"all ok", []string{write("cases: [{name: base}]")}, exitOK, ""},
 		{"infeasible legs", []string{write("cases: [{name: d, defaults.redundancy: diverse}]")}, exitInfeasible, "1 of 1 scenarios have infeasible legs"},
 		{"invalid sweep file", []string{filepath.Join(sweepFixtures, "bad.yaml")}, exitInvalid, `bad.yaml:9:44: case "strands-text": defaults.strands: want an integer, got "many"`},
+		// Checked before any scenario is planned (route/sweep TestPreflightRefusesBeforePlanning).
+		{"a scenario's plan invalid", []string{filepath.Join(sweepFixtures, "small.yaml")}, exitInvalid,
+			`small.yaml:10:26: case "bad-hub": hub: want the id of a building, got "NOWHERE", which no building has`},
 		{"bad shard", []string{write("cases: [{name: base}]"), "--shard", "3/2"}, exitInvalid, "--shard"},
 		{"bad jobs", []string{write("cases: [{name: base}]"), "--jobs", "0"}, exitInvalid, "--jobs"},
 		{"no sweep file", nil, exitInvalid, "name exactly one sweep file"},
@@ -135,8 +141,8 @@ func TestSweepFull(t *testing.T) {
 		want bool
 	}{{"lean by default", nil, false}, {"full", []string{"--full"}, true}} {
 		out := t.TempDir()
-		args := append([]string{"sweep", filepath.Join(sweepFixtures, "small.yaml"), "--out", out, "--quiet"}, tc.args...)
-		if _, msg, code := run(t, args...); code != exitInvalid {
+		args := append([]string{"sweep", filepath.Join(sweepFixtures, "valid.yaml"), "--out", out, "--quiet"}, tc.args...)
+		if _, msg, code := run(t, args...); code != exitInfeasible {
 			t.Fatalf("%s: exit %d: %s", tc.name, code, msg)
 		}
 		dirs, _ := filepath.Glob(filepath.Join(out, "*", "summary.json"))
@@ -235,5 +241,49 @@ func TestSweepScenarioReproducedByPlan(t *testing.T) {
 		if mode == "warm" && started != 4 {
 			t.Errorf("%d warm scenarios checked, want 4", started)
 		}
+	}
+}
+
+// TestProgressCountsPlannedOnly: on a resumed sweep, the rate and the time left count only
+// the scenarios planned in this run. 100 of 200 scenarios are kept at once, then one is
+// planned every 2 s: at 20 s, 10 planned in 20 s is 0.5 per second and the 90 not yet
+// reached take about 180 s (counting the kept ones would say 5.5 per second and 16 s). The
+// bar on a terminal counts the scenarios to plan (its length less the kept ones) and the
+// closing line the planned ones.
+func TestProgressCountsPlannedOnly(t *testing.T) {
+	t.Parallel()
+	var buf bytes.Buffer
+	clock := time.Date(2026, 1, 1, 0, 0, 0, 0, time.UTC)
+	p := newProgress(&buf, false)
+	p.now = func() time.Time { return clock }
+	p.start, p.last = clock, clock
+	s := sweep.Progress{Total: 200}
+	for i := 0; i < 100; i++ {
+		s.Done++
+		s.Skipped++
+		p.update(s)
+	}
+	for i := 0; i < 10; i++ {
+		clock = clock.Add(2 * time.Second)
+		s.Done++
+		p.update(s)
+	}
+	want := "sweep: 105/200 scenarios (100 kept), 0.5 planned per second, about 3m10s left\n" +
+		"sweep: 110/200 scenarios (100 kept), 0.5 planned per second, about 3m0s left\n"
+	if buf.String() != want {
+		t.Errorf("progress lines:\ngot  %q\nwant %q", buf.String(), want)
+	}
+	buf.Reset()
+	p.finish(true)
+	if got := buf.String(); got != "sweep: 10 scenarios planned in 20s, 0.5 per second\n" {
+		t.Errorf("closing line: got %q", got)
+	}
+
+	tty := newProgress(io.Discard, false)
+	tty.tty = true
+	tty.update(sweep.Progress{Total: 200, Done: 100, Skipped: 100})
+	tty.update(sweep.Progress{Total: 200, Done: 110, Skipped: 100})
+	if st := tty.bar.State(); st.Max != 100 || st.CurrentNum != 10 {
+		t.Errorf("bar: %d of %d, want 10 of 100 (the kept scenarios are not counted)", st.CurrentNum, st.Max)
 	}
 }
