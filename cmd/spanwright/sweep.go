@@ -241,7 +241,7 @@ func (p *progress) update(s sweep.Progress) {
 		if s.Skipped > 0 {
 			p.bar.Describe(fmt.Sprintf("sweep (%d kept)", s.Skipped))
 		}
-		p.bar.ChangeMax(s.Total - s.Skipped)
+		p.bar.ChangeMax(max(1, s.Total-s.Skipped))
 		p.bar.Set(planned(s))
 		return
 	}
@@ -271,9 +271,8 @@ func (p *progress) finish(done bool) {
 	if p.bar != nil {
 		if done {
 			p.bar.Finish()
-		} else {
-			p.bar.Clear()
 		}
+		p.bar.Clear() // Finish leaves the bar on its line when it never drew the whole
 	}
 	el := p.now().Sub(p.start)
 	if n := planned(p.state); done && n > 0 {
