@@ -84,7 +84,7 @@ func runCheck(ctx context.Context, args []string, db string, maxBytes int64, opt
 	}
 	if len(rep.Unreachable) > 0 {
 		// As plan: the buildings cut off cannot be served (exit 3); the rest can be planned.
-		return fmt.Errorf("%w: %d buildings cannot reach the hub %s: %s", route.ErrInfeasible, len(rep.Unreachable), escape.Terminal(rep.Hub), escape.TerminalList(rep.Unreachable))
+		return fmt.Errorf("%w: %s cannot reach the hub %s: %s", route.ErrInfeasible, output.Counted(len(rep.Unreachable), "building", "buildings"), escape.Terminal(rep.Hub), escape.TerminalList(rep.Unreachable))
 	}
 	return nil
 }

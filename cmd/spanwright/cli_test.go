@@ -3,6 +3,7 @@ package main
 import (
 	"os"
 	"path/filepath"
+	"regexp"
 	"runtime/debug"
 	"slices"
 	"strconv"
@@ -125,6 +126,22 @@ func TestExitTableInREADME(t *testing.T) {
 	}
 }
 
+// singularCounts fails t when text (terminal output) gives a count of one with a plural noun
+// ("1 handholes"), or lacks one of the phrases want: English grammar, no published source
+// needed; the starter campus has one handhole where new pathway joins and one turn that
+// needs a structure, which printed "1 handholes" and "1 junctions".
+func singularCounts(t *testing.T, text string, want ...string) {
+	t.Helper()
+	for _, m := range regexp.MustCompile(`(?:^|[ (])1 ([a-z][a-z-]*s)\b`).FindAllStringSubmatch(text, -1) {
+		t.Errorf("a count of one with a plural: %q in\n%s", strings.TrimSpace(m[0]), text)
+	}
+	for _, w := range want {
+		if !strings.Contains(text, w) {
+			t.Errorf("output lacks %q:\n%s", w, text)
+		}
+	}
+}
+
 // TestStarterCommand writes the starter files, plans them (status 0, priced from the
 // template, so no demo-price warning), then refuses to write them again, naming each file.
 func TestStarterCommand(t *testing.T) {
@@ -143,6 +160,11 @@ func TestStarterCommand(t *testing.T) {
 	if strings.Contains(planOut, "demo price book") {
 		t.Errorf("plan of the starter files warns of the demo price book:\n%s", planOut)
 	}
+	checkOut, msg, code := run(t, "check", filepath.Join(dir, "plan.yaml"))
+	if code != exitOK {
+		t.Fatalf("check of the starter files: exit %d: %s\n%s", code, msg, checkOut)
+	}
+	singularCounts(t, planOut+checkOut, "1 handhole where new pathway joins", "1 junction where a turn")
 	before, _ := os.ReadFile(filepath.Join(dir, "plan.yaml"))
 	os.WriteFile(filepath.Join(dir, "plan.yaml"), append(before, "# my edit\n"...), 0o644)
 	_, msg, code = run(t, "starter", dir)

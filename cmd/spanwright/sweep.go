@@ -164,7 +164,7 @@ func outcome(rep *sweep.Report) error {
 func printReport(w io.Writer, rep *sweep.Report, shard sweep.Shard) {
 	what := scenarios(rep.Run)
 	if !shard.Whole() {
-		what = fmt.Sprintf("shard %s: %d of %d scenarios", shard, rep.Run, rep.Scenarios)
+		what = fmt.Sprintf("shard %s: %d of %s", shard, rep.Run, scenarios(rep.Scenarios))
 	}
 	fmt.Fprintf(w, "sweep: %s: %d ok, %d with infeasible legs, %d failed", what, rep.OK, rep.Infeasible, rep.Failed)
 	if rep.Skipped > 0 {
@@ -281,9 +281,4 @@ func (p *progress) finish(done bool) {
 }
 
 // scenarios counts scenarios in words: "1 scenario", "3 scenarios".
-func scenarios(n int) string {
-	if n == 1 {
-		return "1 scenario"
-	}
-	return fmt.Sprintf("%d scenarios", n)
-}
+func scenarios(n int) string { return output.Counted(n, "scenario", "scenarios") }

@@ -556,12 +556,12 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 		unit, force = "ft", "lbf"
 	}
 	t := escape.Terminal // ids and names from the input, each within a line
-	fmt.Fprintf(w, "plan %q: hub %s, %d links, %d legs, %s of route\n", s.Scenario, t(s.Hub), s.Links, s.Legs, length(s.TotalRouteM))
+	fmt.Fprintf(w, "plan %q: hub %s, %s, %s, %s of route\n", s.Scenario, t(s.Hub), Counted(s.Links, "link", "links"), Counted(s.Legs, "leg", "legs"), length(s.TotalRouteM))
 	for _, n := range s.Notes {
 		fmt.Fprintf(w, "note: %s\n", t(n))
 	}
 	if s.Infeasible > 0 {
-		fmt.Fprintf(w, "%s infeasible:\n", counted(s.Infeasible, "leg", "legs"))
+		fmt.Fprintf(w, "%s infeasible:\n", Counted(s.Infeasible, "leg", "legs"))
 		for _, l := range r.Legs {
 			if !l.Feasible {
 				fmt.Fprintf(w, "  %s %s: %s\n", t(l.Link.ID), t(l.Name), t(l.Reason))
@@ -580,7 +580,7 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 		}
 		var mix []string
 		for _, m := range slices.Sorted(maps.Keys(s.MediaMix)) {
-			mix = append(mix, fmt.Sprintf("%s %d (%d legs)", t(m), len(links[m]), s.MediaMix[m]))
+			mix = append(mix, fmt.Sprintf("%s %d (%s)", t(m), len(links[m]), Counted(s.MediaMix[m], "leg", "legs")))
 		}
 		fmt.Fprintf(w, "links by medium: %s\n", strings.Join(mix, ", "))
 	}
@@ -598,7 +598,7 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 		for _, k := range slices.Sorted(maps.Keys(byCons)) {
 			parts = append(parts, t(k)+" "+length(byCons[k]))
 		}
-		fmt.Fprintf(w, "cable bought: %s (%s in all, %d mid-span splices)\n", strings.Join(parts, ", "), length(s.CableM), s.MidSpanSplices)
+		fmt.Fprintf(w, "cable bought: %s (%s in all, %s)\n", strings.Join(parts, ", "), length(s.CableM), Counted(s.MidSpanSplices, "mid-span splice", "mid-span splices"))
 	}
 	if s.CrossingLegs > 0 || s.TurnHandholes > 0 {
 		fmt.Fprintf(w, "legs through a building: %d; handholes to add where a route turns between pathways: %d (see links.csv)\n",
@@ -615,7 +615,7 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 	e := r.Estimate
 	if e == nil || e.BOM == nil {
 		if s.WarningCount > 0 {
-			fmt.Fprintf(w, "%s (see summary.json)\n", counted(s.WarningCount, "warning", "warnings"))
+			fmt.Fprintf(w, "%s (see summary.json)\n", Counted(s.WarningCount, "warning", "warnings"))
 		}
 		return nil
 	}
@@ -624,8 +624,9 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 	if c.BoreM > 0 {
 		bored = " (" + length(c.BoreM) + " of it bored)"
 	}
-	fmt.Fprintf(w, "construction: new trench %s%s, added duct %s, %d handholes where new pathway joins, %d along new construction, %d for added pull points; %d building entrances used\n",
-		length(c.NewM), bored, length(c.AddedDuctM), len(c.NewJunctions), len(c.RunHandholes), e.AddedPullPoints, len(c.Entrances))
+	fmt.Fprintf(w, "construction: new trench %s%s, added duct %s, %s where new pathway joins, %d along new construction, %d for added pull points; %s used\n",
+		length(c.NewM), bored, length(c.AddedDuctM), Counted(len(c.NewJunctions), "handhole", "handholes"), len(c.RunHandholes), e.AddedPullPoints,
+		Counted(len(c.Entrances), "building entrance", "building entrances"))
 	if len(e.Pulls) > 0 {
 		hi := e.Pulls[0]
 		for _, p := range e.Pulls {
@@ -637,8 +638,8 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 		if opt.imperial() {
 			tn, rated = install.NToLbf(tn), install.NToLbf(rated)
 		}
-		fmt.Fprintf(w, "pulling: %d pull sections, %d over rating; highest %.1f %s of %.1f %s rated (%s %s, from %s to %s)\n",
-			s.PullSections, s.PullsOverRating, tn, force, rated, force, t(r.Legs[hi.Leg].Link.ID), t(r.Legs[hi.Leg].Name), t(hi.From), t(hi.To))
+		fmt.Fprintf(w, "pulling: %s, %d over rating; highest %.1f %s of %.1f %s rated (%s %s, from %s to %s)\n",
+			Counted(s.PullSections, "pull section", "pull sections"), s.PullsOverRating, tn, force, rated, force, t(r.Legs[hi.Leg].Link.ID), t(r.Legs[hi.Leg].Name), t(hi.From), t(hi.To))
 	}
 	b := e.BOM
 	var cats []string
@@ -655,7 +656,7 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 		fmt.Fprintf(w, "budget %s %s: %s by %s (%.1f %%)\n", media.FormatCents(s.BudgetCents), t(b.Currency), word, media.FormatCents(over), math.Abs(s.OverBudgetPct))
 	}
 	if s.WarningCount > 0 {
-		fmt.Fprintf(w, "%s (see summary.json)\n", counted(s.WarningCount, "warning", "warnings"))
+		fmt.Fprintf(w, "%s (see summary.json)\n", Counted(s.WarningCount, "warning", "warnings"))
 	}
 	if s.DemoPrices != "" {
 		fmt.Fprintf(w, "warning: %s\n", s.DemoPrices)
@@ -712,13 +713,14 @@ func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
 	case len(r.Unreachable) == 0:
 		fmt.Fprintf(w, "hub         %s: every building can reach it\n", t(r.Hub))
 	default:
-		fmt.Fprintf(w, "hub         %s: %d buildings cannot reach it: %s\n", t(r.Hub), len(r.Unreachable), escape.TerminalList(r.Unreachable))
+		fmt.Fprintf(w, "hub         %s: %s cannot reach it: %s\n", t(r.Hub), Counted(len(r.Unreachable), "building", "buildings"), escape.TerminalList(r.Unreachable))
 		for _, why := range r.CutOff {
 			fmt.Fprintf(w, "  cut off: %s\n", t(why))
 		}
 	}
 	if len(r.ThroughOnly) > 0 {
-		fmt.Fprintf(w, "through     %d buildings reach the hub only through another building routes may not cross: %s\n", len(r.ThroughOnly), escape.TerminalList(r.ThroughOnly))
+		fmt.Fprintf(w, "through     %s the hub only through another building routes may not cross: %s\n",
+			Counted(len(r.ThroughOnly), "building reaches", "buildings reach"), escape.TerminalList(r.ThroughOnly))
 	}
 	// The entrances, one line per building that has more than one or a declared one.
 	var multi []string
@@ -735,11 +737,11 @@ func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
 		}
 		i = j
 	}
-	fmt.Fprintf(w, "entrances   %d (%d buildings with more than one, or declared ones)\n", len(r.Entrances), len(multi))
+	fmt.Fprintf(w, "entrances   %d (%s with more than one, or declared ones)\n", len(r.Entrances), Counted(len(multi), "building", "buildings"))
 	for _, m := range multi {
 		fmt.Fprintln(w, m)
 	}
-	fmt.Fprintf(w, "turns       %d junctions where a turn between pathways needs a structure built\n", len(r.Turns))
+	fmt.Fprintf(w, "turns       %s where a turn between pathways needs a structure built\n", Counted(len(r.Turns), "junction", "junctions"))
 	if len(r.Turns) > 0 {
 		fmt.Fprintf(w, "  %s\n", escape.TerminalList(r.Turns))
 	}
@@ -754,8 +756,10 @@ func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
 	return nil
 }
 
-// counted is n and the noun that goes with it: "1 leg", "2 legs".
-func counted(n int, one, many string) string {
+// Counted is n and the words that go with it: one for a count of one, many for any other
+// ("1 leg", "2 legs", "0 legs"; "1 building reaches", "3 buildings reach"). Every count printed
+// to the terminal or written in summary text goes through it.
+func Counted(n int, one, many string) string {
 	if n == 1 {
 		return "1 " + one
 	}

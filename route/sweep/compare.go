@@ -12,6 +12,7 @@ import (
 
 	"spanwright/route/escape"
 	"spanwright/route/fileset"
+	"spanwright/route/output"
 	"spanwright/route/workbook"
 )
 
@@ -486,7 +487,7 @@ func compareMD(js []judged, keys []string, cur string) []byte {
 	}
 	n := tallyOf(js)
 	fmt.Fprintf(&b, "# Sweep comparison\n\n")
-	fmt.Fprintf(&b, "%d scenarios: %d ok, %d with infeasible legs, %d failed.", len(js), n.ok, n.infeasible, n.failed)
+	fmt.Fprintf(&b, "%s: %d ok, %d with infeasible legs, %d failed.", output.Counted(len(js), "scenario", "scenarios"), n.ok, n.infeasible, n.failed)
 	if cur != "" {
 		fmt.Fprintf(&b, " Money in %s.", escape.Markdown(cur))
 	}

@@ -8,8 +8,10 @@ import (
 	"os"
 	"path/filepath"
 	"reflect"
-	"spanwright/route/fileset"
 	"strings"
+
+	"spanwright/route/fileset"
+	"spanwright/route/output"
 )
 
 // ErrMerge is wrapped by Merge's error when the rows files given do not make one whole sweep.
@@ -86,7 +88,7 @@ func Merge(dirs []string, out string, more CompareFunc) (*Report, error) {
 			}
 		}
 		if len(missing) > 0 {
-			errs = append(errs, fmt.Sprintf("%d of %d scenarios missing: %s", len(missing), head.Scenarios, missingText(missing)))
+			errs = append(errs, fmt.Sprintf("%d of %s missing: %s", len(missing), output.Counted(head.Scenarios, "scenario", "scenarios"), missingText(missing)))
 		}
 	}
 	if len(errs) > 0 {

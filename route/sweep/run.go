@@ -124,9 +124,13 @@ func (r *Report) Err() error {
 	switch {
 	case r.Failed > 0:
 		first := r.Failures[0]
-		return fmt.Errorf("%w: %d of %d scenarios, first %s: %s", ErrScenarioFailed, r.Failed, r.Run, first.ID, oneLine(first.Error))
+		return fmt.Errorf("%w: %d of %s, first %s: %s", ErrScenarioFailed, r.Failed, output.Counted(r.Run, "scenario", "scenarios"), first.ID, oneLine(first.Error))
 	case r.Infeasible > 0:
-		return fmt.Errorf("%d of %d scenarios have infeasible legs: %w", r.Infeasible, r.Run, route.ErrInfeasible)
+		verb := " have"
+		if r.Infeasible == 1 {
+			verb = " has"
+		}
+		return fmt.Errorf("%d of %s%s infeasible legs: %w", r.Infeasible, output.Counted(r.Run, "scenario", "scenarios"), verb, route.ErrInfeasible)
 	}
 	return nil
 }
