@@ -31,7 +31,7 @@ func TestSweepCommand(t *testing.T) {
 			t.Errorf("stdout lacks %q:\n%s", want, stdout)
 		}
 	}
-	if !strings.Contains(msg, "sweep: 5 scenarios planned in ") || !strings.Contains(msg, "1 of 5 scenarios have infeasible legs") {
+	if !strings.Contains(msg, "sweep: 5 scenarios planned in ") || !strings.Contains(msg, "1 of 5 scenarios has infeasible legs") {
 		t.Errorf("stderr and error: got %q, want the closing progress line and the infeasible legs", msg)
 	}
 
@@ -113,7 +113,7 @@ func TestSweepExitStatus(t *testing.T) {
 		want string
 	}{
 		{"all ok", []string{write("cases: [{name: base}]")}, exitOK, ""},
-		{"infeasible legs", []string{write("cases: [{name: d, defaults.redundancy: diverse}]")}, exitInfeasible, "1 of 1 scenarios have infeasible legs"},
+		{"infeasible legs", []string{write("cases: [{name: d, defaults.redundancy: diverse}]")}, exitInfeasible, "1 of 1 scenario has infeasible legs"},
 		{"invalid sweep file", []string{filepath.Join(sweepFixtures, "bad.yaml")}, exitInvalid, `bad.yaml:9:44: case "strands-text": defaults.strands: want an integer, got "many"`},
 		// Checked before any scenario is planned (route/sweep TestPreflightRefusesBeforePlanning).
 		{"a scenario's plan invalid", []string{filepath.Join(sweepFixtures, "small.yaml")}, exitInvalid,
