@@ -2,8 +2,10 @@ package main
 
 import (
 	"bytes"
+	"errors"
 	"io"
 	"os"
+	"os/exec"
 	"path/filepath"
 	"regexp"
 	"strings"
@@ -285,5 +287,54 @@ func TestProgressCountsPlannedOnly(t *testing.T) {
 	tty.update(sweep.Progress{Total: 200, Done: 110, Skipped: 100})
 	if st := tty.bar.State(); st.Max != 100 || st.CurrentNum != 10 {
 		t.Errorf("bar: %d of %d, want 10 of 100 (the kept scenarios are not counted)", st.CurrentNum, st.Max)
+	}
+}
+
+// TestREADMESweepExample runs the shell block of the README's "Sweeps" section as written,
+// in an empty folder, with `spanwright` on PATH (this test binary as main): a new user must
+// be able to run it from `spanwright starter` alone. It plans 17 scenarios and exits 3, as the
+// README says.
+func TestREADMESweepExample(t *testing.T) {
+	t.Parallel()
+	readme, err := os.ReadFile("../../README.md")
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, section, _ := strings.Cut(string(readme), "\n## Sweeps\n")
+	_, block, ok1 := strings.Cut(section, "```sh\n")
+	block, _, ok2 := strings.Cut(block, "```\n")
+	if !ok1 || !ok2 || !strings.Contains(block, "spanwright sweep") {
+		t.Fatalf("no shell block with a sweep in the README's Sweeps section")
+	}
+	dir := t.TempDir()
+	bin := filepath.Join(dir, "bin")
+	if err := os.Mkdir(bin, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	self, err := os.Executable()
+	if err != nil {
+		t.Fatal(err)
+	}
+	wrapper := "#!/bin/sh\nSPANWRIGHT_AS_MAIN=1 exec '" + self + "' \"$@\"\n"
+	if err := os.WriteFile(filepath.Join(bin, "spanwright"), []byte(wrapper), 0o755); err != nil {
+		t.Fatal(err)
+	}
+	work := filepath.Join(dir, "work")
+	if err := os.Mkdir(work, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	cmd := exec.Command("bash", "-c", block)
+	cmd.Dir = work
+	cmd.Env = append(os.Environ(), "PATH="+bin+string(os.PathListSeparator)+os.Getenv("PATH"))
+	out, err := cmd.CombinedOutput()
+	var ee *exec.ExitError
+	if !errors.As(err, &ee) || ee.ExitCode() != exitInfeasible {
+		t.Fatalf("the README's sweep: %v, want exit status 3 as the README says\n%s", err, out)
+	}
+	if !strings.Contains(string(out), "sweep: 17 scenarios: ") {
+		t.Errorf("the README's sweep did not plan 17 scenarios:\n%s", out)
+	}
+	if _, err := os.Stat(filepath.Join(work, "results", "compare.md")); err != nil {
+		t.Errorf("the README's sweep wrote no results/compare.md: %v", err)
 	}
 }
