@@ -220,14 +220,20 @@ func TestSweepScenarioReproducedByPlan(t *testing.T) {
 		for _, sc := range scenarios {
 			args := []string{"plan", filepath.Join(out, sc, "plan.yaml"), "--out", filepath.Join(dir, mode+"-plan-"+sc)}
 			summary, _ := os.ReadFile(filepath.Join(out, sc, "summary.json"))
+			planYAML, _ := os.ReadFile(filepath.Join(out, sc, "plan.yaml"))
+			// A warm scenario's plan.yaml says how to reproduce it: that command is the one run.
+			again := regexp.MustCompile(`(?m)^#   spanwright (plan OUT/\S+ --start-from OUT/(\S+) --out DIR)$`).FindSubmatch(planYAML)
 			if mode == "warm" && sc != first {
 				if !bytes.Contains(summary, []byte(`"started_from": "`+first+`"`)) {
 					t.Errorf("warm %s: summary.json does not name the base %s as its start", sc, first)
 				}
-				args = append(args, "--start-from", filepath.Join(out, first))
+				if again == nil || string(again[2]) != first {
+					t.Fatalf("warm %s: plan.yaml does not say it started from %s and how to reproduce it:\n%.600s", sc, first, planYAML)
+				}
+				args = strings.Fields(strings.NewReplacer("OUT", out, "DIR", filepath.Join(dir, mode+"-plan-"+sc)).Replace(string(again[1])))
 				started++
-			} else if bytes.Contains(summary, []byte(`"started_from"`)) {
-				t.Errorf("%s %s: summary.json names a start", mode, sc)
+			} else if bytes.Contains(summary, []byte(`"started_from"`)) || again != nil || bytes.Contains(planYAML, []byte("warm start")) {
+				t.Errorf("%s %s: summary.json or plan.yaml names a start", mode, sc)
 			}
 			if _, msg, code := run(t, args...); code != exitOK && code != exitInfeasible {
 				t.Fatalf("%s: status %d: %s", strings.Join(args, " "), code, msg)

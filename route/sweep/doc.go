@@ -45,7 +45,9 @@
 //
 // Each scenario's plan is the base plan's YAML with the overrides applied to its node tree,
 // file names made relative to the scenario's folder, then read by route.ParsePlan, so all
-// plan validation applies.
+// plan validation applies. Its header comment names the scenario and, for a warm-started one,
+// the base scenario it started from and the `spanwright plan --start-from` command that
+// reproduces it (warmHeader; no path of the output folder, no time).
 //
 // # Output folder
 //

@@ -518,11 +518,15 @@ func (r *runner) scenario(ctx context.Context, sc Scenario, resume bool) (outcom
 		return fail(err)
 	}
 	p.MaxInputBytes = r.f.MaxInputBytes
+	start := r.startOf(sc, p)
+	if start != nil {
+		planData = warmHeader(planData, sc.ID, r.base.id)
+	}
 	inputs, err := r.inputsFile(p, planData)
 	if err != nil {
 		return fail(err)
 	}
-	if r.startOf(sc, p) != nil {
+	if start != nil {
 		// The routes it starts from are an input too: a new base plans it again.
 		inputs = append(inputs, sumLine(r.base.routesSum, "../"+r.base.id+"/"+output.RoutesFile)...)
 	}

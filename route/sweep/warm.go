@@ -1,6 +1,7 @@
 package sweep
 
 import (
+	"bytes"
 	"context"
 	"crypto/sha256"
 	"encoding/hex"
@@ -118,4 +119,20 @@ func (r *runner) startOf(sc Scenario, p *plan.Plan) *routing.Start {
 		return nil
 	}
 	return b.start
+}
+
+// warmHeader returns a warm-started scenario's plan.yaml with, after its first line (the
+// comment naming the scenario), the lines that say where the optimizer's search began and
+// how `spanwright plan --start-from` reproduces the scenario alone. OUT stands for the
+// sweep's --out as it was given, so that the bytes do not depend on it (shards written to
+// different folders agree).
+func warmHeader(planData []byte, id, base string) []byte {
+	head := "# warm start: the optimizer's search began from the routes of the base scenario " + base + "\n" +
+		"# (summary.json: started_from); to plan this scenario alone, byte for byte, run where the\n" +
+		"# sweep ran, with OUT its --out as given:\n" +
+		"#   spanwright plan OUT/" + id + "/" + PlanFile + " --start-from OUT/" + base + " --out DIR\n"
+	i := bytes.IndexByte(planData, '\n') + 1 // the first line is the scenario's comment (planYAML)
+	out := make([]byte, 0, len(planData)+len(head))
+	out = append(append(append(out, planData[:i]...), head...), planData[i:]...)
+	return out
 }

@@ -1,0 +1,51 @@
+package sweep
+
+import (
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// TestWarmHeader: a warm-started scenario's plan.yaml says, in its header, which base
+// scenario it started from and the command that reproduces it; the base's and a cold sweep's
+// do not; and the header is the same bytes whatever the output folder (the file names below
+// it are relative to the scenario's folder, so they follow the folder's depth).
+func TestWarmHeader(t *testing.T) {
+	t.Parallel()
+	f := parseInline(t, "vary:\n  defaults.rate: [10G, 25G]")
+	base, other := f.Scenarios()[0], f.Scenarios()[1]
+	a, b := t.TempDir(), filepath.Join(t.TempDir(), "deeper", "out")
+	run(t, f, Options{Out: a})
+	run(t, f, Options{Out: b})
+	read := func(dir, id string) string {
+		data, err := os.ReadFile(filepath.Join(dir, id, PlanFile))
+		if err != nil {
+			t.Fatal(err)
+		}
+		return string(data)
+	}
+	got := read(a, other.ID)
+	lines := strings.Split(got, "\n")
+	want := []string{
+		"# scenario " + other.ID + ": defaults.rate=25G",
+		"# warm start: the optimizer's search began from the routes of the base scenario " + base.ID,
+		"# (summary.json: started_from); to plan this scenario alone, byte for byte, run where the",
+		"# sweep ran, with OUT its --out as given:",
+		"#   spanwright plan OUT/" + other.ID + "/plan.yaml --start-from OUT/" + base.ID + " --out DIR",
+	}
+	if len(lines) < len(want) || strings.Join(lines[:len(want)], "\n") != strings.Join(want, "\n") {
+		t.Errorf("warm scenario's plan.yaml starts\n%s\nwant\n%s", strings.Join(lines[:min(len(lines), len(want))], "\n"), strings.Join(want, "\n"))
+	}
+	if deeper := strings.Split(read(b, other.ID), "\n"); strings.Join(deeper[:len(want)], "\n") != strings.Join(lines[:len(want)], "\n") {
+		t.Error("the warm scenario's header depends on the output folder")
+	}
+	if strings.Contains(read(a, base.ID), "warm start") {
+		t.Error("the base scenario's plan.yaml says it was warm-started")
+	}
+	cold := t.TempDir()
+	run(t, f, Options{Out: cold, Cold: true})
+	if strings.Contains(read(cold, other.ID), "warm start") {
+		t.Error("a cold sweep's plan.yaml says it was warm-started")
+	}
+}
