@@ -58,6 +58,8 @@
 //	                     sha256sum, so `sha256sum -c inputs.sha256` in the folder checks them
 //	<id>/routes.geojson, links.csv, summary.json, …   the plan's outputs (output.Files,
 //	                     and Options.Extra)
+//	<id>/outputs.sha256  SHA-256 of those outputs, as GNU sha256sum writes it; a resumed sweep
+//	                     plans the base scenario again when its outputs no longer match
 //	<id>/error.txt       for a failed scenario, instead of the outputs: why it failed
 //	rows.jsonl           one JSON object per scenario (a header line first), in index order
 //	compare.csv, compare.xlsx, compare.md   the comparison, see Compare

@@ -32,6 +32,7 @@ import (
 const (
 	PlanFile    = "plan.yaml"     // the scenario's plan: the base plan with its overrides
 	InputsFile  = "inputs.sha256" // SHA-256 of the plan and of every file it reads
+	OutputsFile = "outputs.sha256" // SHA-256 of every output of the plan in the folder (outputsFile)
 	ErrorFile   = "error.txt"     // why the scenario failed (hidden characters shown); only in a failed scenario's folder
 	SummaryFile = "summary.json"  // the plan summary, read back by a resumed sweep
 )
@@ -571,7 +572,7 @@ func (r *runner) scenario(ctx context.Context, sc Scenario, resume bool) (outcom
 		}
 		files = append(files, more...)
 	}
-	files = append(files, fileset.OutputFile{Name: PlanFile, Data: planData}, fileset.OutputFile{Name: InputsFile, Data: inputs})
+	files = append(files, outputsFile(files), fileset.OutputFile{Name: PlanFile, Data: planData}, fileset.OutputFile{Name: InputsFile, Data: inputs})
 	seen := map[string]bool{}
 	for _, o := range files {
 		if seen[o.Name] || o.Name == ErrorFile {

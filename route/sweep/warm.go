@@ -5,10 +5,14 @@ import (
 	"context"
 	"crypto/sha256"
 	"encoding/hex"
+	"errors"
 	"fmt"
 	"path/filepath"
+	"slices"
+	"strings"
 
 	"spanwright/geo/input"
+	"spanwright/route/fileset"
 	"spanwright/route/output"
 	"spanwright/route/plan"
 	"spanwright/route/routing"
@@ -60,8 +64,12 @@ func (r *runner) planBase(ctx context.Context) error {
 		if err == nil {
 			st, err = output.ParseStart(path, routes)
 		}
+		if err == nil && !outputsIntact(dir, r.f.MaxInputBytes) {
+			err = errChanged
+		}
 		if err != nil {
-			// Its folder is not whole after all: plan it (and write it, when it is this run's).
+			// Its folder is not whole, or not as the sweep wrote it (a routes.geojson edited by
+			// hand would steer every warm scenario): plan it (and write it, when it is this run's).
 			if out, err = r.scenario(ctx, sc, false); err != nil {
 				return err
 			}
@@ -135,4 +143,45 @@ func warmHeader(planData []byte, id, base string) []byte {
 	out := make([]byte, 0, len(planData)+len(head))
 	out = append(append(append(out, planData[:i]...), head...), planData[i:]...)
 	return out
+}
+
+// errChanged says that a kept scenario folder's files are not those its outputs.sha256 lists.
+var errChanged = errors.New("changed since it was written")
+
+// outputsFile is outputs.sha256 for a scenario's outputs (files: the plan's and Extra's, not
+// plan.yaml and inputs.sha256, whose bytes name files relative to the output folder and which
+// inputs.sha256 covers): one line per file, sorted by name, in the format of GNU sha256sum, so
+// `sha256sum -c outputs.sha256` in the folder checks them.
+func outputsFile(files []fileset.OutputFile) fileset.OutputFile {
+	files = slices.SortedFunc(slices.Values(files), func(a, b fileset.OutputFile) int { return strings.Compare(a.Name, b.Name) })
+	var b bytes.Buffer
+	for _, f := range files {
+		sum := sha256.Sum256(f.Data)
+		b.WriteString(sumLine(hex.EncodeToString(sum[:]), f.Name))
+	}
+	return fileset.OutputFile{Name: OutputsFile, Data: b.Bytes()}
+}
+
+// outputsIntact reports whether the scenario folder dir holds an outputs.sha256 whose every
+// file is there with its hash: false for a file edited or removed by hand, and for a folder
+// written before outputs.sha256 existed.
+func outputsIntact(dir string, maxBytes int64) bool {
+	list, err := input.ReadFile(filepath.Join(dir, OutputsFile), input.Cap(maxBytes, input.DefaultTextMiB))
+	if err != nil || len(list) == 0 {
+		return false
+	}
+	for _, line := range strings.Split(strings.TrimSuffix(string(list), "\n"), "\n") {
+		want, name, ok := strings.Cut(line, "  ")
+		if !ok || strings.ContainsAny(name, "/\\") || name == "" {
+			return false // the sweep names only files of the folder itself, plainly
+		}
+		data, err := input.ReadFile(filepath.Join(dir, name), input.Cap(maxBytes, input.DefaultDataMiB))
+		if err != nil {
+			return false
+		}
+		if sum := sha256.Sum256(data); hex.EncodeToString(sum[:]) != want {
+			return false
+		}
+	}
+	return true
 }

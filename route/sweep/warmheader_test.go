@@ -1,7 +1,9 @@
 package sweep
 
 import (
+	"encoding/json"
 	"os"
+	"os/exec"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -47,5 +49,52 @@ func TestWarmHeader(t *testing.T) {
 	run(t, f, Options{Out: cold, Cold: true})
 	if strings.Contains(read(cold, other.ID), "warm start") {
 		t.Error("a cold sweep's plan.yaml says it was warm-started")
+	}
+}
+
+// TestResumeReplansEditedBase: a base scenario whose routes.geojson was edited by hand (still
+// a valid start: one route cut to its first span) is planned again on --resume, since every
+// warm scenario would otherwise start from the edit; the base's folder then comes back as the
+// sweep wrote it, every other scenario is kept, and the whole output folder is byte for byte
+// the first run's. Every scenario folder's outputs.sha256 lists its files, and GNU sha256sum
+// -c accepts it.
+func TestResumeReplansEditedBase(t *testing.T) {
+	t.Parallel()
+	f := parseInline(t, "vary:\n  defaults.rate: [10G, 25G]\n  design.slack_m: [3, 6]")
+	dir := t.TempDir()
+	run(t, f, Options{Out: dir})
+	before := tree(t, dir)
+	base := f.Scenarios()[0]
+	routes := filepath.Join(dir, base.ID, "routes.geojson")
+	data, err := os.ReadFile(routes)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var fc map[string]any
+	if err := json.Unmarshal(data, &fc); err != nil {
+		t.Fatal(err)
+	}
+	props := fc["features"].([]any)[0].(map[string]any)["properties"].(map[string]any)
+	props["spans"] = props["spans"].([]any)[:1]
+	edited, err := json.Marshal(fc)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(routes, edited, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	rep := run(t, f, Options{Out: dir, Resume: true})
+	if rep.Skipped != rep.Run-1 {
+		t.Errorf("resume after editing the base's routes: %d of %d kept, want all but the base", rep.Skipped, rep.Run)
+	}
+	sameTree(t, "resumed after editing the base's routes", before, tree(t, dir))
+
+	sum := sha256sum(t)
+	for _, sc := range f.Scenarios() {
+		cmd := exec.Command(sum, "-c", OutputsFile)
+		cmd.Dir = filepath.Join(dir, sc.ID)
+		if out, err := cmd.CombinedOutput(); err != nil || !strings.Contains(string(out), "routes.geojson: OK") {
+			t.Errorf("sha256sum -c %s in %s: %v\n%s", OutputsFile, sc.ID, err, out)
+		}
 	}
 }
