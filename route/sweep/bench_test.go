@@ -280,3 +280,22 @@ func BenchmarkSweepWarm(b *testing.B) {
 		})
 	}
 }
+
+// BenchmarkPreflight checks the inputs of a sweep of 100 price books of a generated
+// 1,000-building campus (issue 16's sweep) as Options.Preflight does before planning: each
+// run from a new runner, so the campus is read and noded and every engine built (work the
+// planning then finds in the runner's caches, except engines beyond engineCacheSize).
+func BenchmarkPreflight(b *testing.B) {
+	factors := []float64{0.5, 0.75, 1, 1.5, 2, 3, 4, 6, 8, 12}
+	f := priceSweep(b, 1000, factors, factors)
+	for i := 0; i < b.N; i++ {
+		r, err := newRunner(f, Options{Out: filepath.Join(b.TempDir(), "out")})
+		if err != nil {
+			b.Fatal(err)
+		}
+		if err := r.preflight(f.Scenarios()); err != nil {
+			b.Fatal(err)
+		}
+	}
+	b.ReportMetric(float64(len(f.Scenarios())*b.N)/b.Elapsed().Seconds(), "scenarios/s")
+}
