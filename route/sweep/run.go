@@ -30,11 +30,11 @@ import (
 
 // Files every planned scenario folder holds besides the plan's outputs.
 const (
-	PlanFile    = "plan.yaml"     // the scenario's plan: the base plan with its overrides
-	InputsFile  = "inputs.sha256" // SHA-256 of the plan and of every file it reads
+	PlanFile    = "plan.yaml"      // the scenario's plan: the base plan with its overrides
+	InputsFile  = "inputs.sha256"  // SHA-256 of the plan and of every file it reads
 	OutputsFile = "outputs.sha256" // SHA-256 of every output of the plan in the folder (outputsFile)
-	ErrorFile   = "error.txt"     // why the scenario failed (hidden characters shown); only in a failed scenario's folder
-	SummaryFile = "summary.json"  // the plan summary, read back by a resumed sweep
+	ErrorFile   = "error.txt"      // why the scenario failed (hidden characters shown); only in a failed scenario's folder
+	SummaryFile = "summary.json"   // the plan summary, read back by a resumed sweep
 )
 
 // Shard selects a deterministic part of a sweep: the scenarios whose index modulo N is I-1.

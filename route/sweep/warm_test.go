@@ -110,3 +110,93 @@ func TestWarmStartSameBytes(t *testing.T) {
 	}
 	sameTree(t, "resumed warm over cold", all, tree(t, cold))
 }
+
+// TestWarmHeader: a warm-started scenario's plan.yaml says, in its header, which base
+// scenario it started from and the command that reproduces it; the base's and a cold sweep's
+// do not; and the header is the same bytes whatever the output folder (the file names below
+// it are relative to the scenario's folder, so they follow the folder's depth).
+func TestWarmHeader(t *testing.T) {
+	t.Parallel()
+	f := parseInline(t, "vary:\n  defaults.rate: [10G, 25G]")
+	base, other := f.Scenarios()[0], f.Scenarios()[1]
+	a, b := t.TempDir(), filepath.Join(t.TempDir(), "deeper", "out")
+	run(t, f, Options{Out: a})
+	run(t, f, Options{Out: b})
+	read := func(dir, id string) string {
+		data, err := os.ReadFile(filepath.Join(dir, id, PlanFile))
+		if err != nil {
+			t.Fatal(err)
+		}
+		return string(data)
+	}
+	got := read(a, other.ID)
+	lines := strings.Split(got, "\n")
+	want := []string{
+		"# scenario " + other.ID + ": defaults.rate=25G",
+		"# warm start: the optimizer's search began from the routes of the base scenario " + base.ID,
+		"# (summary.json: started_from); to plan this scenario alone, byte for byte, run where the",
+		"# sweep ran, with OUT its --out as given:",
+		"#   spanwright plan OUT/" + other.ID + "/plan.yaml --start-from OUT/" + base.ID + " --out DIR",
+	}
+	if len(lines) < len(want) || strings.Join(lines[:len(want)], "\n") != strings.Join(want, "\n") {
+		t.Errorf("warm scenario's plan.yaml starts\n%s\nwant\n%s", strings.Join(lines[:min(len(lines), len(want))], "\n"), strings.Join(want, "\n"))
+	}
+	if deeper := strings.Split(read(b, other.ID), "\n"); strings.Join(deeper[:len(want)], "\n") != strings.Join(lines[:len(want)], "\n") {
+		t.Error("the warm scenario's header depends on the output folder")
+	}
+	if strings.Contains(read(a, base.ID), "warm start") {
+		t.Error("the base scenario's plan.yaml says it was warm-started")
+	}
+	cold := t.TempDir()
+	run(t, f, Options{Out: cold, Cold: true})
+	if strings.Contains(read(cold, other.ID), "warm start") {
+		t.Error("a cold sweep's plan.yaml says it was warm-started")
+	}
+}
+
+// TestResumeReplansEditedBase: a base scenario whose routes.geojson was edited by hand (still
+// a valid start: one route cut to its first span) is planned again on --resume, since every
+// warm scenario would otherwise start from the edit; the base's folder then comes back as the
+// sweep wrote it, every other scenario is kept, and the whole output folder is byte for byte
+// the first run's. Every scenario folder's outputs.sha256 lists its files, and GNU sha256sum
+// -c accepts it.
+func TestResumeReplansEditedBase(t *testing.T) {
+	t.Parallel()
+	f := parseInline(t, "vary:\n  defaults.rate: [10G, 25G]\n  design.slack_m: [3, 6]")
+	dir := t.TempDir()
+	run(t, f, Options{Out: dir})
+	before := tree(t, dir)
+	base := f.Scenarios()[0]
+	routes := filepath.Join(dir, base.ID, "routes.geojson")
+	data, err := os.ReadFile(routes)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var fc map[string]any
+	if err := json.Unmarshal(data, &fc); err != nil {
+		t.Fatal(err)
+	}
+	props := fc["features"].([]any)[0].(map[string]any)["properties"].(map[string]any)
+	props["spans"] = props["spans"].([]any)[:1]
+	edited, err := json.Marshal(fc)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(routes, edited, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	rep := run(t, f, Options{Out: dir, Resume: true})
+	if rep.Skipped != rep.Run-1 {
+		t.Errorf("resume after editing the base's routes: %d of %d kept, want all but the base", rep.Skipped, rep.Run)
+	}
+	sameTree(t, "resumed after editing the base's routes", before, tree(t, dir))
+
+	sum := sha256sum(t)
+	for _, sc := range f.Scenarios() {
+		cmd := exec.Command(sum, "-c", OutputsFile)
+		cmd.Dir = filepath.Join(dir, sc.ID)
+		if out, err := cmd.CombinedOutput(); err != nil || !strings.Contains(string(out), "routes.geojson: OK") {
+			t.Errorf("sha256sum -c %s in %s: %v\n%s", OutputsFile, sc.ID, err, out)
+		}
+	}
+}
