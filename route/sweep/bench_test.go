@@ -293,7 +293,7 @@ func BenchmarkPreflight(b *testing.B) {
 		if err != nil {
 			b.Fatal(err)
 		}
-		if err := r.preflight(f.Scenarios()); err != nil {
+		if err := r.preflight(context.Background(), f.Scenarios()); err != nil {
 			b.Fatal(err)
 		}
 	}

@@ -1,6 +1,7 @@
 package sweep
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"path/filepath"
@@ -29,8 +30,9 @@ import (
 // the key, and the scenario when not every scenario has it.
 //
 // The sites and engines it builds stay in the runner's caches, so planning reuses them; a
-// sweep over more campus variants than the site cache holds reads some campuses twice.
-func (r *runner) preflight(list []Scenario) error {
+// sweep over more campus variants than the site cache holds reads some campuses twice. When
+// ctx is done it stops between two scenarios and returns an error wrapping ctx's.
+func (r *runner) preflight(ctx context.Context, list []Scenario) error {
 	var out input.Problems
 	seen := map[string]bool{}
 	add := func(p *input.Problem) {
@@ -48,6 +50,9 @@ func (r *runner) preflight(list []Scenario) error {
 	var byText []*planProblem
 	index := map[string]*planProblem{}
 	for _, sc := range list {
+		if err := ctx.Err(); err != nil {
+			return fmt.Errorf("sweep stopped while checking its scenarios, before any was planned: %w", err)
+		}
 		for _, p := range r.checkScenario(sc) {
 			if p.File != r.f.Base {
 				add(p)

@@ -78,3 +78,19 @@ func TestPreflightBasePlanProblem(t *testing.T) {
 		t.Errorf("got %v, want one problem of %s at links[0] naming NOSUCH", err, base)
 	}
 }
+
+// TestPreflightStops: a sweep stopped (its context done) during the pre-flight returns an
+// error wrapping the context's, before planning or writing anything.
+func TestPreflightStops(t *testing.T) {
+	t.Parallel()
+	f := parseInline(t, "vary:\n  defaults.rate: [10G, 25G]")
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	out := filepath.Join(t.TempDir(), "out")
+	if _, err := Run(ctx, f, Options{Out: out, Preflight: true}); !errors.Is(err, context.Canceled) {
+		t.Errorf("got %v, want context.Canceled", err)
+	}
+	if _, err := os.Stat(out); !errors.Is(err, os.ErrNotExist) {
+		t.Errorf("the stopped sweep made its output folder (%v)", err)
+	}
+}

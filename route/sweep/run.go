@@ -175,7 +175,7 @@ func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
 		return nil, err
 	}
 	if opt.Preflight {
-		if err := r.preflight(f.Scenarios()); err != nil {
+		if err := r.preflight(ctx, f.Scenarios()); err != nil {
 			return nil, err
 		}
 	}
