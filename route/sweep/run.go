@@ -717,7 +717,7 @@ func (r *runner) resumable(dir string, inputs []byte) (output.Summary, bool) {
 	if err != nil || json.Unmarshal(data, &s) != nil {
 		return s, false
 	}
-	for _, name := range append(output.Names(r.opt.Write, s.HasBill()), PlanFile) {
+	for _, name := range append(output.Names(r.opt.Write, s.HasBill()), PlanFile, OutputsFile) {
 		if fi, err := os.Stat(filepath.Join(dir, name)); err != nil || !fi.Mode().IsRegular() {
 			return s, false
 		}
