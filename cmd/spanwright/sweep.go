@@ -32,7 +32,9 @@ func sweepCommand() *cli.Command {
 			"(plan.yaml, routes.geojson, links.csv, summary.json, bom.csv; with --full also bom.xlsx,\n" +
 			"plan.gpkg and report.html) and the comparison to OUT/compare.csv, compare.xlsx, compare.md and\n" +
 			"compare.html (sortable table, cost-against-margin plot). `spanwright plan` on a\n" +
-			"scenario's plan.yaml writes its full set later.\n\n" +
+			"scenario's plan.yaml writes its full set later. Every scenario's inputs are checked\n" +
+			"before any is planned: a value or file the plan cannot take stops the sweep with every\n" +
+			"problem at once, status 2, nothing written.\n\n" +
 			"The first scenario is planned from scratch; every other one on the same campus starts\n" +
 			"the optimizer from its routes (summary.json's started_from names it), and\n" +
 			"`spanwright plan <scenario>/plan.yaml --start-from OUT/<first scenario>` reproduces it.\n" +
