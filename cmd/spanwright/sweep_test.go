@@ -117,7 +117,7 @@ func TestSweepExitStatus(t *testing.T) {
 		{"all ok", []string{write("cases: [{name: base}]")}, exitOK, ""},
 		{"infeasible legs", []string{write("cases: [{name: d, defaults.redundancy: diverse}]")}, exitInfeasible, "1 of 1 scenario has infeasible legs"},
 		{"invalid sweep file", []string{filepath.Join(sweepFixtures, "bad.yaml")}, exitInvalid, `bad.yaml:9:44: case "strands-text": defaults.strands: want an integer, got "many"`},
-		// Checked before any scenario is planned (route/sweep TestPreflightRefusesBeforePlanning).
+		// Checked before any scenario is planned (TestSweepPreflightWritesNothing).
 		{"a scenario's plan invalid", []string{filepath.Join(sweepFixtures, "small.yaml")}, exitInvalid,
 			`small.yaml:10:26: case "bad-hub": hub: want the id of a building, got "NOWHERE", which no building has`},
 		{"bad shard", []string{write("cases: [{name: base}]"), "--shard", "3/2"}, exitInvalid, "--shard"},
@@ -342,5 +342,24 @@ func TestREADMESweepExample(t *testing.T) {
 	}
 	if _, err := os.Stat(filepath.Join(work, "results", "compare.md")); err != nil {
 		t.Errorf("the README's sweep wrote no results/compare.md: %v", err)
+	}
+}
+
+// TestSweepPreflightWritesNothing: a sweep one of whose scenarios names a hub no building has
+// (testdata/sweep/small.yaml's bad-hub case) is refused before any scenario is planned:
+// status 2, the problem at the case's line in the sweep file, no summary on stdout, and no
+// output folder made.
+func TestSweepPreflightWritesNothing(t *testing.T) {
+	t.Parallel()
+	out := filepath.Join(t.TempDir(), "results")
+	stdout, msg, code := run(t, "sweep", filepath.Join(sweepFixtures, "small.yaml"), "--out", out)
+	if code != exitInvalid || !strings.Contains(msg, `small.yaml:10:26: case "bad-hub": hub: want the id of a building, got "NOWHERE"`) {
+		t.Errorf("got status %d, %q; want 2 and the bad hub at its place in the sweep file", code, msg)
+	}
+	if stdout != "" || strings.Contains(msg, "planned") {
+		t.Errorf("a refused sweep printed a summary or progress: stdout %q, stderr %q", stdout, msg)
+	}
+	if _, err := os.Stat(out); !errors.Is(err, os.ErrNotExist) {
+		t.Errorf("a refused sweep made %s (%v)", out, err)
 	}
 }
