@@ -27,7 +27,8 @@ import (
 //
 // A problem of another file (a campus file, a price book an axis names) names that file, as
 // `spanwright plan` would. Any other problem of a scenario's plan names the base plan and
-// the key, and the scenario when not every scenario has it.
+// the key. Both are given once, with the scenarios that have them when not all do ("in
+// scenario ID and 3 more").
 //
 // The sites and engines it builds stay in the runner's caches, so planning reuses them; a
 // sweep over more campus variants than the site cache holds reads some campuses twice. When
@@ -42,46 +43,51 @@ func (r *runner) preflight(ctx context.Context, list []Scenario) error {
 			out.Add(p)
 		}
 	}
-	// Problems of the base plan's keys, by message, with the scenarios that have them.
-	type planProblem struct {
+	// Problems not placed at an override (the base plan's, another file's), by message, with
+	// the scenarios that have them.
+	type shared struct {
 		p   *input.Problem
 		ids []string
 	}
-	var byText []*planProblem
-	index := map[string]*planProblem{}
+	var byText []*shared
+	index := map[string]*shared{}
 	for _, sc := range list {
 		if err := ctx.Err(); err != nil {
 			return fmt.Errorf("sweep stopped while checking its scenarios, before any was planned: %w", err)
 		}
 		for _, p := range r.checkScenario(sc) {
-			if p.File != r.f.Base {
-				add(p)
+			if p.File == r.f.Path {
+				add(p) // at an override: its place names the axis or case
 				continue
 			}
 			k := p.Error()
-			pp := index[k]
-			if pp == nil {
-				pp = &planProblem{p: p}
-				index[k] = pp
-				byText = append(byText, pp)
+			sh := index[k]
+			if sh == nil {
+				sh = &shared{p: p}
+				index[k] = sh
+				byText = append(byText, sh)
 			}
-			pp.ids = append(pp.ids, sc.ID)
+			sh.ids = append(sh.ids, sc.ID)
 		}
 	}
-	for _, pp := range byText {
+	for _, sh := range byText {
 		which := ""
-		switch n := len(pp.ids); {
+		switch n := len(sh.ids); {
 		case n == len(list):
 		case n == 1:
-			which = "scenario " + pp.ids[0]
+			which = "in scenario " + sh.ids[0]
 		default:
-			which = fmt.Sprintf("scenario %s and %d more", pp.ids[0], n-1)
+			which = fmt.Sprintf("in scenario %s and %d more", sh.ids[0], n-1)
 		}
-		if which != "" && pp.p.Item != "" {
-			which += ": "
+		if which != "" {
+			q := *sh.p // the problem may be a loader's own, shared with its cache: change a copy
+			if q.Item != "" {
+				which += ": " + q.Item
+			}
+			q.Item = which
+			sh.p = &q
 		}
-		pp.p.Item = which + pp.p.Item
-		add(pp.p)
+		add(sh.p)
 	}
 	out.Sort()
 	return out.Err()

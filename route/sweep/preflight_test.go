@@ -94,3 +94,21 @@ func TestPreflightStops(t *testing.T) {
 		t.Errorf("the stopped sweep made its output folder (%v)", err)
 	}
 }
+
+// TestPreflightNamesScenario: a problem of another file that only some scenarios have (the
+// demo campus's buildings beyond a max_lateral_m of 0.1 m, in one case) names that file, as
+// `spanwright plan` would, and the scenario that has it.
+func TestPreflightNamesScenario(t *testing.T) {
+	t.Parallel()
+	f := parseInline(t, "cases:\n  - {name: as-drawn}\n  - {name: tight, design.max_lateral_m: 0.1}")
+	_, err := Run(context.Background(), f, Options{Out: filepath.Join(t.TempDir(), "out"), Preflight: true})
+	if err == nil {
+		t.Fatal("got no error, want the buildings no pathway reaches within 0.1 m")
+	}
+	tight := f.Scenarios()[1].ID
+	for _, line := range strings.Split(err.Error(), "\n") {
+		if !strings.Contains(line, "campus.geojson: feature #") || !strings.Contains(line, ": in scenario "+tight+": no pathway within 0.1 m") {
+			t.Errorf("problem %q does not name the campus feature and the scenario %s", line, tight)
+		}
+	}
+}
