@@ -167,6 +167,10 @@ type solver struct {
 	sbVer  uint32
 	sbCur  []int64
 	sbTree []*tree
+	// forced is, per demand, the edges every route of it takes (forcedFrom), valid where
+	// forcedOK.
+	forced   [][]int32
+	forcedOK []bool
 	// openCandidates' scratch: valid demands, demands per proposed edge, edge runs.
 	valid                     []int32
 	optUsers                  [][]int32
