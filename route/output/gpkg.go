@@ -366,15 +366,23 @@ func addedPullPoints(r *route.Result) []pullPoint {
 	}
 	byKey := map[key]*pullPoint{}
 	var keys []key
+	// A leg's junctions, spans and distances along it, for the pulls of one leg after the
+	// other (pulls come in leg order, a leg's sections together): worked out once per leg.
+	leg := -1
+	var juncs []string
+	var cum []float64
+	var spans []geoSpan
 	for _, p := range r.Estimate.Pulls {
 		l := &r.Legs[p.Leg]
-		juncs := r.Site.JunctionsOf(l.Steps)
-		cum := make([]float64, len(l.Steps)+1)
-		spans := make([]geoSpan, len(l.Steps))
-		for j, st := range l.Steps {
-			sp, _ := r.Site.Net.Span(st.SpanID)
-			spans[j] = geoSpan{id: sp.ID, lengthM: sp.LengthM}
-			cum[j+1] = cum[j] + sp.LengthM
+		if p.Leg != leg {
+			leg = p.Leg
+			juncs = r.Site.JunctionsOf(l.Steps)
+			cum, spans = append(cum[:0], 0), spans[:0]
+			for j, st := range l.Steps {
+				sp, _ := r.Site.Net.Span(st.SpanID)
+				spans = append(spans, geoSpan{id: sp.ID, lengthM: sp.LengthM})
+				cum = append(cum, cum[j]+sp.LengthM)
+			}
 		}
 		for _, end := range []struct {
 			added bool
