@@ -1,12 +1,14 @@
 package gpkgout
 
 import (
+	"bytes"
 	"context"
 	"database/sql"
 	"encoding/binary"
-	"errors"
 	"fmt"
+	"io"
 	"math"
+	"os"
 	"strings"
 
 	"github.com/paulmach/orb"
@@ -84,48 +86,77 @@ const (
 // rowCheckEvery is how many rows Bytes writes between two looks at the context.
 const rowCheckEvery = 256
 
-// Bytes renders layers as one GeoPackage file. It fails, returning no bytes, on a layer or
-// column name that is not a plain lower-case identifier or is used twice, a value whose Go
-// type does not fit its column, a geometry of another type than its layer's, a non-finite
-// number, or when ctx is done (ctx's error).
+// Bytes renders layers as one GeoPackage file and returns its bytes (WriteTo into memory).
+// It fails, returning no bytes, on a layer or column name that is not a plain lower-case
+// identifier or is used twice, a value whose Go type does not fit its column, a geometry of
+// another type than its layer's, a non-finite number, or when ctx is done (ctx's error).
 func Bytes(ctx context.Context, layers []Layer) ([]byte, error) {
-	if err := check(layers); err != nil {
+	var buf bytes.Buffer
+	if err := WriteTo(ctx, &buf, layers); err != nil {
 		return nil, err
 	}
-	if err := ctx.Err(); err != nil {
-		return nil, err
-	}
-	db, err := sql.Open("sqlite", "file::memory:")
+	return buf.Bytes(), nil
+}
+
+// build writes layers into the SQLite database dsn names and closes it.
+func build(ctx context.Context, dsn string, layers []Layer) error {
+	db, err := sql.Open("sqlite", dsn)
 	if err != nil {
-		return nil, fmt.Errorf("gpkgout: %w", err)
+		return fmt.Errorf("gpkgout: %w", err)
 	}
 	defer db.Close()
 	db.SetMaxOpenConns(1)
 	conn, err := db.Conn(ctx)
 	if err != nil {
-		return nil, fmt.Errorf("gpkgout: %w", err)
+		return fmt.Errorf("gpkgout: %w", err)
 	}
 	defer conn.Close()
 	if err := write(ctx, conn, layers); err != nil {
 		if ctx.Err() != nil {
-			return nil, ctx.Err()
+			return ctx.Err()
 		}
-		return nil, err
-	}
-	var out []byte
-	err = conn.Raw(func(dc any) error {
-		s, ok := dc.(interface{ Serialize() ([]byte, error) })
-		if !ok {
-			return errors.New("the SQLite driver cannot serialise a database")
-		}
-		var err error
-		out, err = s.Serialize()
 		return err
-	})
-	if err != nil {
-		return nil, fmt.Errorf("gpkgout: %w", err)
 	}
-	return out, nil
+	if err := conn.Close(); err != nil {
+		return fmt.Errorf("gpkgout: %w", err)
+	}
+	if err := db.Close(); err != nil {
+		return fmt.Errorf("gpkgout: %w", err)
+	}
+	return nil
+}
+
+// WriteTo renders layers as one GeoPackage file and writes it to w. The database is built
+// in a temporary file (in os.TempDir, removed before WriteTo returns; without a rollback
+// journal, as nothing else reads it) and then copied to w, so that a large GeoPackage is never
+// held in memory: SQLite keeps its own small page cache. What fails Bytes fails WriteTo,
+// before anything is written to w; an error of w is returned as it is.
+func WriteTo(ctx context.Context, w io.Writer, layers []Layer) error {
+	if err := check(layers); err != nil {
+		return err
+	}
+	if err := ctx.Err(); err != nil {
+		return err
+	}
+	tmp, err := os.CreateTemp("", "spanwright-gpkg-*.gpkg")
+	if err != nil {
+		return fmt.Errorf("gpkgout: %w", err)
+	}
+	name := tmp.Name()
+	defer os.Remove(name)
+	if err := tmp.Close(); err != nil {
+		return fmt.Errorf("gpkgout: %w", err)
+	}
+	if err := build(ctx, "file:"+name+"?_pragma=journal_mode(OFF)&_pragma=synchronous(OFF)", layers); err != nil {
+		return err
+	}
+	f, err := os.Open(name)
+	if err != nil {
+		return fmt.Errorf("gpkgout: %w", err)
+	}
+	defer f.Close()
+	_, err = io.Copy(w, f)
+	return err
 }
 
 // schema is the GeoPackage's required tables, as OGC GeoPackage 1.3 Annex C gives them

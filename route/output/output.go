@@ -85,11 +85,7 @@ func Outputs(r *route.Result, opt WriteOptions) []File {
 	}
 	if !opt.SkipGeoPackage {
 		files = append(files, File{Name: geoPackageFileName, Weight: HeavyMiB(r), Render: func(ctx context.Context, w io.Writer) error {
-			data, err := planGeoPackage(ctx, r)
-			if err == nil {
-				_, err = w.Write(data)
-			}
-			return named(ctx, geoPackageFileName, err)
+			return named(ctx, geoPackageFileName, writeGeoPackage(ctx, w, r))
 		}})
 	}
 	if r.Estimate == nil || r.Estimate.BOM == nil {
