@@ -255,6 +255,10 @@ func writeLayer(ctx context.Context, conn *sql.Conn, l *Layer) error {
 	var box orb.Bound
 	boxed := false
 	args := make([]any, 1+len(l.Columns))
+	// The rows look at ctx every rowCheckEvery rows; given ctx itself, the driver would
+	// start a goroutine per row to watch it.
+	rowCtx := context.WithoutCancel(ctx)
+	var blob []byte // each geometry's blob, built into the same buffer (the driver copies it)
 	for i, f := range l.Features {
 		if i%rowCheckEvery == 0 {
 			if err := ctx.Err(); err != nil {
@@ -263,11 +267,11 @@ func writeLayer(ctx context.Context, conn *sql.Conn, l *Layer) error {
 		}
 		args[0] = nil
 		if f.Geometry != nil {
-			g, err := Encode(f.Geometry)
-			if err != nil {
+			var err error
+			if blob, err = appendEncoded(blob[:0], f.Geometry); err != nil {
 				return fmt.Errorf("feature %d: %w", i+1, err)
 			}
-			args[0] = g
+			args[0] = blob
 			b := f.Geometry.Bound()
 			if !boxed {
 				box, boxed = b, true
@@ -284,7 +288,7 @@ func writeLayer(ctx context.Context, conn *sql.Conn, l *Layer) error {
 				}
 			}
 		}
-		if _, err := ins.ExecContext(ctx, args...); err != nil {
+		if _, err := ins.ExecContext(rowCtx, args...); err != nil {
 			return fmt.Errorf("feature %d: %w", i+1, err)
 		}
 	}
@@ -394,8 +398,11 @@ const (
 // miny, maxy]), srs_id SRSID, the envelope, then g in little-endian ISO WKB. g is an
 // orb.Point, orb.LineString or orb.MultiPolygon with finite coordinates; a LineString needs
 // two points.
-func Encode(g orb.Geometry) ([]byte, error) {
-	b := []byte{'G', 'P', 0, flagsEnvelopeXY | flagLittleEndian}
+func Encode(g orb.Geometry) ([]byte, error) { return appendEncoded(nil, g) }
+
+// appendEncoded appends g's blob (Encode) to b.
+func appendEncoded(b []byte, g orb.Geometry) ([]byte, error) {
+	b = append(b, 'G', 'P', 0, flagsEnvelopeXY|flagLittleEndian)
 	b = binary.LittleEndian.AppendUint32(b, uint32(SRSID))
 	box := g.Bound()
 	for _, x := range []float64{box.Min[0], box.Max[0], box.Min[1], box.Max[1]} {
