@@ -66,12 +66,12 @@ type File struct {
 	Weight int
 }
 
-// HeavyMiB estimates the memory, in MiB, that the renderer of one of the plan's large files
-// (plan.gpkg, bom.xlsx, report.html) holds beyond the plan itself, as the process's peak
-// resident memory sees it (garbage not yet collected included): about 45 KiB a leg, measured
-// on the generated campuses of 1,000 and 5,000 buildings (README, "Writing the files side by
-// side"; common practice, no published source).
-func HeavyMiB(r *route.Result) int { return 1 + len(r.Legs)*45/1024 }
+// HeavyMiB estimates the memory, in MiB, that rendering one of the plan's large files
+// (plan.gpkg, bom.xlsx, report.html) beside another adds to the process's peak resident
+// memory: about 20 KiB a leg, measured on the generated 5,000-building campus (5,097 legs:
+// 730 MB with the large files one at a time, 823 MB two side by side; README, "Writing the
+// files side by side"; a measured figure, no published source).
+func HeavyMiB(r *route.Result) int { return 1 + len(r.Legs)*20/1024 }
 
 // Outputs lists the output files of the result, in the order they are rendered:
 // routes.geojson, links.csv, summary.json, plan.gpkg (unless opt.SkipGeoPackage), and with a
@@ -178,9 +178,10 @@ func WriteSet(ctx context.Context, dir string, files []File, protect []string) e
 }
 
 // WriteBudgetMiB is how much Weight WriteSet renders at once: the memory, in MiB, that the
-// files rendering side by side may hold beyond the plan. Two large files of a plan of up to
-// about 2,900 legs render side by side; those of a larger plan one at a time, so that a
-// 5,000-building plan stays under 1 GB (README, "Writing the files side by side").
+// files rendering side by side may add. Two large files of a plan of up to about 6,500 legs
+// render side by side; those of a larger plan one at a time, so that the plan's peak stays
+// well under 1 GB (issue 16's target for 5,000 buildings; README, "Writing the files side
+// by side").
 const WriteBudgetMiB = 256
 
 func round1(x float64) float64 {
