@@ -95,7 +95,8 @@ func BenchmarkSweep(b *testing.B) {
 // reports the heap before writing (live-MB, after a collection: the plan, the site and the
 // caches) and at its highest while writing (peak-MB: heap objects, live and not yet
 // collected, sampled every millisecond from runtime/metrics), and for each file the highest
-// heap while it was rendered (FILE-peak-MB; files rendered side by side share their peaks).
+// heap while it was rendered (FILE-peak-MB; files rendered side by side share their peaks),
+// and the process's CPU time per write of the set (cpu-ms/op, the heap sampler's included).
 // -cpu 1 renders the files one after the other, -cpu 2 two side by side (WriteSet renders
 // on GOMAXPROCS goroutines):
 //
@@ -146,6 +147,7 @@ func BenchmarkPlanOutputs(b *testing.B) {
 				}
 			})
 			b.ReportAllocs()
+			cpu0 := cpuTime()
 			b.ResetTimer()
 			for b.Loop() {
 				if err := output.WriteSet(context.Background(), out, files, r.Inputs()); err != nil {
@@ -153,6 +155,7 @@ func BenchmarkPlanOutputs(b *testing.B) {
 				}
 			}
 			b.StopTimer()
+			b.ReportMetric(float64(cpuTime()-cpu0)/float64(b.N)/1e6, "cpu-ms/op")
 			close(stop)
 			sampled.Wait()
 			const mb = 1 << 20
