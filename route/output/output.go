@@ -60,18 +60,25 @@ func (o WriteOptions) lengthCol(name string) (string, func(m float64) string) {
 type File struct {
 	Name   string
 	Render func(ctx context.Context, w io.Writer) error
-	// Weight is the memory its renderer holds beyond the plan, in MiB as HeavyMiB estimates
-	// it, for WriteSet's budget (WriteBudgetMiB): 0 for a file written as it goes in little
-	// memory (routes.geojson, the CSVs, summary.json).
+	// Weight is the memory its renderer holds beyond the plan, in MiB as WeightMiB
+	// estimates it, for WriteSet's budget (WriteBudgetMiB): 0 for a file written as it goes
+	// in little memory (routes.geojson, the CSVs, summary.json).
 	Weight int
 }
 
-// HeavyMiB estimates the memory, in MiB, that rendering one of the plan's large files
-// (plan.gpkg, bom.xlsx, report.html) beside another adds to the process's peak resident
-// memory: about 20 KiB a leg, measured on the generated 5,000-building campus (5,097 legs:
-// 730 MB with the large files one at a time, 823 MB two side by side; README, "Writing the
-// files side by side"; a measured figure, no published source).
-func HeavyMiB(r *route.Result) int { return 1 + len(r.Legs)*20/1024 }
+// Working memory of the large renderers, in KiB per leg of the plan: the heap above the
+// plan's own at its highest while the file alone was rendered (BenchmarkPlanOutputs, -cpu 1,
+// the generated 5,000-building campus: 5,097 legs, 211 MB live; bom.xlsx 636 MB, report.html
+// 645 MB, plan.gpkg 434 MB at the highest), garbage not yet collected included. Measured
+// figures, no published source.
+const (
+	WorkbookKiBPerLeg   = 84
+	ReportKiBPerLeg     = 86
+	GeoPackageKiBPerLeg = 44
+)
+
+// WeightMiB is the Weight of a large file whose renderer holds kibPerLeg KiB per leg of r.
+func WeightMiB(r *route.Result, kibPerLeg int) int { return 1 + len(r.Legs)*kibPerLeg/1024 }
 
 // Outputs lists the output files of the result, in the order they are rendered:
 // routes.geojson, links.csv, summary.json, plan.gpkg (unless opt.SkipGeoPackage), and with a
@@ -84,7 +91,7 @@ func Outputs(r *route.Result, opt WriteOptions) []File {
 		{Name: "summary.json", Render: func(ctx context.Context, w io.Writer) error { return summaryJSON(w, r) }},
 	}
 	if !opt.SkipGeoPackage {
-		files = append(files, File{Name: geoPackageFileName, Weight: HeavyMiB(r), Render: func(ctx context.Context, w io.Writer) error {
+		files = append(files, File{Name: geoPackageFileName, Weight: WeightMiB(r, GeoPackageKiBPerLeg), Render: func(ctx context.Context, w io.Writer) error {
 			return named(ctx, geoPackageFileName, writeGeoPackage(ctx, w, r))
 		}})
 	}
@@ -95,7 +102,7 @@ func Outputs(r *route.Result, opt WriteOptions) []File {
 		return named(ctx, "bom.csv", bomCSV(w, r, opt))
 	}})
 	if !opt.SkipWorkbook {
-		files = append(files, File{Name: "bom.xlsx", Weight: HeavyMiB(r), Render: func(ctx context.Context, w io.Writer) error {
+		files = append(files, File{Name: "bom.xlsx", Weight: WeightMiB(r, WorkbookKiBPerLeg), Render: func(ctx context.Context, w io.Writer) error {
 			return named(ctx, "bom.xlsx", bomXLSX(ctx, w, r, opt))
 		}})
 	}
@@ -178,11 +185,12 @@ func WriteSet(ctx context.Context, dir string, files []File, protect []string) e
 }
 
 // WriteBudgetMiB is how much Weight WriteSet renders at once: the memory, in MiB, that the
-// files rendering side by side may add. Two large files of a plan of up to about 6,500 legs
-// render side by side; those of a larger plan one at a time, so that the plan's peak stays
-// well under 1 GB (issue 16's target for 5,000 buildings; README, "Writing the files side
-// by side").
-const WriteBudgetMiB = 256
+// files rendering side by side may hold beyond the plan. bom.xlsx and report.html render side
+// by side up to about 4,200 legs, either of them beside plan.gpkg up to about 5,500; beyond,
+// one at a time. At 5,000 buildings (5,097 legs) plan.gpkg renders beside one of the two
+// and they one after the other, which keeps the plan's peak well under issue 16's 1 GB
+// (README, "Writing the files side by side").
+const WriteBudgetMiB = 700
 
 func round1(x float64) float64 {
 	v, _ := strconv.ParseFloat(strconv.FormatFloat(x, 'f', 1, 64), 64)

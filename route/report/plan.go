@@ -310,7 +310,7 @@ const pagePiece = 64 << 10
 // Output is the plan report as one of a plan's output files (FileName), rendered by
 // WritePlan when written (output.WriteSet).
 func Output(r *route.Result, opt Options) output.File {
-	return output.File{Name: FileName, Weight: output.HeavyMiB(r), Render: func(ctx context.Context, w io.Writer) error {
+	return output.File{Name: FileName, Weight: output.WeightMiB(r, output.ReportKiBPerLeg), Render: func(ctx context.Context, w io.Writer) error {
 		return WritePlan(ctx, w, r, opt)
 	}}
 }
