@@ -1,6 +1,7 @@
 package output
 
 import (
+	"bytes"
 	"context"
 	"errors"
 	"io"
@@ -12,6 +13,7 @@ import (
 	"testing"
 
 	"spanwright/route/fileset"
+	"spanwright/route/internal/testplan"
 )
 
 // TestWriteSet: the files are rendered into the set (side by side: fileset's tests check the
@@ -84,6 +86,32 @@ func TestNames(t *testing.T) {
 	} {
 		if got := strings.Join(Names(tc.opt, tc.bill), " "); got != tc.want {
 			t.Errorf("Names(%+v, bill %v) = %s, want %s", tc.opt, tc.bill, got, tc.want)
+		}
+	}
+}
+
+// TestWriteSetSameBytes: the demo's files written side by side (WriteSet) are byte for byte
+// those rendered one after the other in memory (Files), in both unit systems, whatever the
+// scheduling.
+func TestWriteSetSameBytes(t *testing.T) {
+	t.Parallel()
+	r := testplan.DemoResult(t)
+	for _, opt := range []WriteOptions{{}, {Units: UnitsImperial}} {
+		want, err := Files(context.Background(), r, opt)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for range 3 {
+			out := filepath.Join(t.TempDir(), "out")
+			if err := WriteSet(context.Background(), out, Outputs(r, opt), nil); err != nil {
+				t.Fatal(err)
+			}
+			for _, f := range want {
+				got, err := os.ReadFile(filepath.Join(out, f.Name))
+				if err != nil || !bytes.Equal(got, f.Data) {
+					t.Errorf("%s (%s): written side by side, %d bytes (%v), differs from the %d rendered alone", f.Name, opt.Units, len(got), err, len(f.Data))
+				}
+			}
 		}
 	}
 }
