@@ -167,9 +167,10 @@ type Sheet struct {
 	Filter bool
 	// The rows appended, packed (appendCell) one after the other: a large workbook holds
 	// hundreds of thousands of cells, and a Cell is 64 bytes before its text.
-	rows   []byte
-	nrows  int
-	widest []int // per column, the widest cell appended, in characters as shown
+	rows    []byte
+	nrows   int
+	widest  []int  // per column, the widest cell appended, in characters as shown
+	scratch []byte // a number's text, to measure it
 }
 
 // Append adds a row; a row shorter than the columns ends with blank cells. It panics if the
@@ -184,9 +185,24 @@ func (s *Sheet) Append(cells ...Cell) {
 	s.rows = binary.AppendUvarint(s.rows, uint64(len(cells)))
 	for c, cell := range cells {
 		s.rows = appendCell(s.rows, cell)
-		s.widest[c] = max(s.widest[c], utf8.RuneCountInString(cell.display()))
+		s.widest[c] = max(s.widest[c], s.width(cell))
 	}
 	s.nrows++
+}
+
+// width is the number of characters of c as shown (display), numbers formatted into the
+// sheet's scratch buffer rather than a new string each.
+func (s *Sheet) width(c Cell) int {
+	switch {
+	case c.kind == kindNumber, c.kind == kindFormula && !c.cachedText:
+		format, decimals := byte('f'), c.decimals
+		if c.kind == kindFormula && decimals < 0 {
+			format = 'g'
+		}
+		s.scratch = strconv.AppendFloat(s.scratch[:0], c.num, format, decimals, 64)
+		return len(s.scratch) // digits, sign, point and exponent: one byte a character
+	}
+	return utf8.RuneCountInString(c.display())
 }
 
 // Rows returns the number of rows appended, the header not counted.

@@ -517,3 +517,19 @@ func sheetXML(t *testing.T, data []byte, name string) string {
 	}
 	return string(b)
 }
+
+// TestWidthAsDisplayed: a cell's width, measured without building its text, is the number of
+// characters of the text a spreadsheet shows (display) for every kind of cell.
+func TestWidthAsDisplayed(t *testing.T) {
+	rng := rand.New(rand.NewPCG(16, 8))
+	s := &Sheet{}
+	for i := range 2000 {
+		x := (rng.Float64() - 0.5) * math.Pow(10, float64(rng.IntN(60)-30))
+		d := rng.IntN(MaxDecimals+2) - 1
+		for _, c := range []Cell{Number(x, d), Formula("A1", x, d), Formula("A1", math.NaN(), d), FormulaText("A1", "é"), Text("ü"), Bool(i%2 == 0), Blank(), Int(rng.Int64())} {
+			if got, want := s.width(c), utf8.RuneCountInString(c.display()); got != want {
+				t.Fatalf("%+v: width %d, shown as %q (%d characters)", c, got, c.display(), want)
+			}
+		}
+	}
+}
