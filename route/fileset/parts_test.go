@@ -35,12 +35,18 @@ func partsOf(tag string, render func(ctx context.Context, i int) error) []Part {
 // beginParts begins a set over the old set of a new output folder, for the parts.
 func beginParts(t *testing.T, ctx context.Context, parts []Part) (*Set, string) {
 	t.Helper()
+	return beginPartsWith(t, ctx, parts, Begin)
+}
+
+// beginPartsWith is beginParts with the given way to begin (Begin or BeginInPlace).
+func beginPartsWith(t *testing.T, ctx context.Context, parts []Part, begin func(ctx context.Context, dir string, names, protect []string) (*Set, error)) (*Set, string) {
+	t.Helper()
 	out := oldSet(t)
 	names := make([]string, len(parts))
 	for i, p := range parts {
 		names[i] = p.Name
 	}
-	set, err := Begin(ctx, out, names, nil)
+	set, err := begin(ctx, out, names, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -59,8 +65,14 @@ func oldLeftAlone(t *testing.T, out string) {
 }
 
 // TestWritePartsSideBySide: with two workers two parts render at the same time, and the set
-// committed is the same bytes as one written a file at a time.
+// committed, beside the folder or in place, is the same bytes as one written a file at a time.
 func TestWritePartsSideBySide(t *testing.T) {
+	for _, b := range begins {
+		t.Run(b.name, func(t *testing.T) { sideBySide(t, b.begin) })
+	}
+}
+
+func sideBySide(t *testing.T, begin func(ctx context.Context, dir string, names, protect []string) (*Set, error)) {
 	var arrived sync.Mutex
 	n := 0
 	met := make(chan struct{})
@@ -81,7 +93,7 @@ func TestWritePartsSideBySide(t *testing.T) {
 		}
 		return nil
 	})
-	set, out := beginParts(t, context.Background(), parts)
+	set, out := beginPartsWith(t, context.Background(), parts, begin)
 	defer set.Abort()
 	if err := set.WriteParts(parts, 2, 0); err != nil {
 		t.Fatal(err)
