@@ -80,7 +80,8 @@ const (
 // WeightMiB is the Weight of a large file whose renderer holds kibPerLeg KiB per leg of r.
 func WeightMiB(r *route.Result, kibPerLeg int) int { return 1 + len(r.Legs)*kibPerLeg/1024 }
 
-// Outputs lists the output files of the result, in the order they are rendered:
+// Outputs lists the output files of the result, in the set's order (Files renders them in
+// it; WriteSet reports the first failing file in it, though it starts the heaviest first):
 // routes.geojson, links.csv, summary.json, plan.gpkg (unless opt.SkipGeoPackage), and with a
 // bill of materials bom.csv and bom.xlsx (unless opt.SkipWorkbook). Nothing is rendered
 // until a file's Render is called.
