@@ -1,12 +1,14 @@
 package gpkgout
 
 import (
+	"bytes"
 	"context"
 	"database/sql"
 	"encoding/binary"
-	"errors"
 	"fmt"
+	"io"
 	"math"
+	"os"
 	"strings"
 
 	"github.com/paulmach/orb"
@@ -84,48 +86,77 @@ const (
 // rowCheckEvery is how many rows Bytes writes between two looks at the context.
 const rowCheckEvery = 256
 
-// Bytes renders layers as one GeoPackage file. It fails, returning no bytes, on a layer or
-// column name that is not a plain lower-case identifier or is used twice, a value whose Go
-// type does not fit its column, a geometry of another type than its layer's, a non-finite
-// number, or when ctx is done (ctx's error).
+// Bytes renders layers as one GeoPackage file and returns its bytes (WriteTo into memory).
+// It fails, returning no bytes, on a layer or column name that is not a plain lower-case
+// identifier or is used twice, a value whose Go type does not fit its column, a geometry of
+// another type than its layer's, a non-finite number, or when ctx is done (ctx's error).
 func Bytes(ctx context.Context, layers []Layer) ([]byte, error) {
-	if err := check(layers); err != nil {
+	var buf bytes.Buffer
+	if err := WriteTo(ctx, &buf, layers); err != nil {
 		return nil, err
 	}
-	if err := ctx.Err(); err != nil {
-		return nil, err
-	}
-	db, err := sql.Open("sqlite", "file::memory:")
+	return buf.Bytes(), nil
+}
+
+// build writes layers into the SQLite database dsn names and closes it.
+func build(ctx context.Context, dsn string, layers []Layer) error {
+	db, err := sql.Open("sqlite", dsn)
 	if err != nil {
-		return nil, fmt.Errorf("gpkgout: %w", err)
+		return fmt.Errorf("gpkgout: %w", err)
 	}
 	defer db.Close()
 	db.SetMaxOpenConns(1)
 	conn, err := db.Conn(ctx)
 	if err != nil {
-		return nil, fmt.Errorf("gpkgout: %w", err)
+		return fmt.Errorf("gpkgout: %w", err)
 	}
 	defer conn.Close()
 	if err := write(ctx, conn, layers); err != nil {
 		if ctx.Err() != nil {
-			return nil, ctx.Err()
+			return ctx.Err()
 		}
-		return nil, err
-	}
-	var out []byte
-	err = conn.Raw(func(dc any) error {
-		s, ok := dc.(interface{ Serialize() ([]byte, error) })
-		if !ok {
-			return errors.New("the SQLite driver cannot serialise a database")
-		}
-		var err error
-		out, err = s.Serialize()
 		return err
-	})
-	if err != nil {
-		return nil, fmt.Errorf("gpkgout: %w", err)
 	}
-	return out, nil
+	if err := conn.Close(); err != nil {
+		return fmt.Errorf("gpkgout: %w", err)
+	}
+	if err := db.Close(); err != nil {
+		return fmt.Errorf("gpkgout: %w", err)
+	}
+	return nil
+}
+
+// WriteTo renders layers as one GeoPackage file and writes it to w. The database is built
+// in a temporary file (in os.TempDir, removed before WriteTo returns; without a rollback
+// journal, as nothing else reads it) and then copied to w, so that a large GeoPackage is never
+// held in memory: SQLite keeps its own small page cache. What fails Bytes fails WriteTo,
+// before anything is written to w; an error of w is returned as it is.
+func WriteTo(ctx context.Context, w io.Writer, layers []Layer) error {
+	if err := check(layers); err != nil {
+		return err
+	}
+	if err := ctx.Err(); err != nil {
+		return err
+	}
+	tmp, err := os.CreateTemp("", "spanwright-gpkg-*.gpkg")
+	if err != nil {
+		return fmt.Errorf("gpkgout: %w", err)
+	}
+	name := tmp.Name()
+	defer os.Remove(name)
+	if err := tmp.Close(); err != nil {
+		return fmt.Errorf("gpkgout: %w", err)
+	}
+	if err := build(ctx, "file:"+name+"?_pragma=journal_mode(OFF)&_pragma=synchronous(OFF)", layers); err != nil {
+		return err
+	}
+	f, err := os.Open(name)
+	if err != nil {
+		return fmt.Errorf("gpkgout: %w", err)
+	}
+	defer f.Close()
+	_, err = io.Copy(w, f)
+	return err
 }
 
 // schema is the GeoPackage's required tables, as OGC GeoPackage 1.3 Annex C gives them
@@ -224,6 +255,10 @@ func writeLayer(ctx context.Context, conn *sql.Conn, l *Layer) error {
 	var box orb.Bound
 	boxed := false
 	args := make([]any, 1+len(l.Columns))
+	// The rows look at ctx every rowCheckEvery rows; given ctx itself, the driver would
+	// start a goroutine per row to watch it.
+	rowCtx := context.WithoutCancel(ctx)
+	var blob []byte // each geometry's blob, built into the same buffer (the driver copies it)
 	for i, f := range l.Features {
 		if i%rowCheckEvery == 0 {
 			if err := ctx.Err(); err != nil {
@@ -232,11 +267,11 @@ func writeLayer(ctx context.Context, conn *sql.Conn, l *Layer) error {
 		}
 		args[0] = nil
 		if f.Geometry != nil {
-			g, err := Encode(f.Geometry)
-			if err != nil {
+			var err error
+			if blob, err = appendEncoded(blob[:0], f.Geometry); err != nil {
 				return fmt.Errorf("feature %d: %w", i+1, err)
 			}
-			args[0] = g
+			args[0] = blob
 			b := f.Geometry.Bound()
 			if !boxed {
 				box, boxed = b, true
@@ -253,7 +288,7 @@ func writeLayer(ctx context.Context, conn *sql.Conn, l *Layer) error {
 				}
 			}
 		}
-		if _, err := ins.ExecContext(ctx, args...); err != nil {
+		if _, err := ins.ExecContext(rowCtx, args...); err != nil {
 			return fmt.Errorf("feature %d: %w", i+1, err)
 		}
 	}
@@ -363,8 +398,11 @@ const (
 // miny, maxy]), srs_id SRSID, the envelope, then g in little-endian ISO WKB. g is an
 // orb.Point, orb.LineString or orb.MultiPolygon with finite coordinates; a LineString needs
 // two points.
-func Encode(g orb.Geometry) ([]byte, error) {
-	b := []byte{'G', 'P', 0, flagsEnvelopeXY | flagLittleEndian}
+func Encode(g orb.Geometry) ([]byte, error) { return appendEncoded(nil, g) }
+
+// appendEncoded appends g's blob (Encode) to b.
+func appendEncoded(b []byte, g orb.Geometry) ([]byte, error) {
+	b = append(b, 'G', 'P', 0, flagsEnvelopeXY|flagLittleEndian)
 	b = binary.LittleEndian.AppendUint32(b, uint32(SRSID))
 	box := g.Bound()
 	for _, x := range []float64{box.Min[0], box.Max[0], box.Min[1], box.Max[1]} {

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"encoding/binary"
+	"io"
 	"math"
 	"os"
 	"os/exec"
@@ -13,6 +14,8 @@ import (
 	"testing"
 
 	"github.com/paulmach/orb"
+
+	"spanwright/geo/ctxtest"
 )
 
 // sample is two small layers with every column type, nulls, and a feature without geometry.
@@ -190,5 +193,39 @@ func TestGDAL(t *testing.T) {
 	out, err = exec.Command("/usr/bin/python3", validator, path).CombinedOutput()
 	if err != nil || len(bytes.TrimSpace(out)) > 0 {
 		t.Errorf("validate_gpkg.py: %v\n%s", err, out)
+	}
+}
+
+// TestWriteToLeavesNoTemporaryFile: WriteTo's temporary database is gone when it returns,
+// written, refused or stopped; the file written is a whole SQLite database whose header
+// counts its changes consistently (SQLite file format §1.3: the change counter at offset 24
+// equals the version-valid-for number at 92, so the page count at 28 is trusted; no rollback
+// journal is left to replay). Not parallel: it points TMPDIR at a folder of its own.
+func TestWriteToLeavesNoTemporaryFile(t *testing.T) {
+	tmp := t.TempDir()
+	t.Setenv("TMPDIR", tmp)
+	var buf bytes.Buffer
+	if err := WriteTo(context.Background(), &buf, sample()); err != nil {
+		t.Fatal(err)
+	}
+	a := buf.Bytes()
+	if got, want := binary.BigEndian.Uint32(a[24:]), binary.BigEndian.Uint32(a[92:]); got != want || got == 0 {
+		t.Errorf("change counter %d, version-valid-for %d: want equal and set", got, want)
+	}
+	if pages := binary.BigEndian.Uint32(a[28:]); int(pages)*pageSize != len(a) {
+		t.Errorf("header says %d pages, the file is %d bytes", pages, len(a))
+	}
+	bad := sample()
+	bad[0].Features[0].Values[1] = "not a number"
+	if err := WriteTo(context.Background(), io.Discard, bad); err == nil {
+		t.Error("a text in a REAL column was written")
+	}
+	for at := int64(1); at <= 4; at++ { // before the file, while writing the layers
+		if err := WriteTo(ctxtest.New(at), io.Discard, sample()); err != context.Canceled {
+			t.Errorf("stopped at look %d: %v", at, err)
+		}
+	}
+	if ents, _ := os.ReadDir(tmp); len(ents) != 0 {
+		t.Errorf("left in the temporary folder: %v", ents)
 	}
 }

@@ -213,12 +213,14 @@ func Begin(ctx context.Context, dir string, names []string, protect []string) (*
 	return newSet(ctx, real, tmp, sorted, false, exists, keep), nil
 }
 
-// A Set is a set of output files being written one at a time: each goes to its temporary
-// place as soon as it is rendered (Write), so that only one file is ever rendered in memory,
-// and Commit puts the whole set in place as one, as WriteFiles (a Set from Begin) or
-// CommitFiles (from BeginInPlace) does. Until Commit, dir holds its old files only: a failed
-// Write, Abort, a done context or a killed process leaves no new file in it (a killed one
-// leaves its hidden folder, which the next run removes). A Set is for one goroutine.
+// A Set is a set of output files being written as they are rendered: each goes to its
+// temporary place as it is rendered (Write one at a time, or WriteParts several side by
+// side), so that no file is ever held whole in memory, and Commit puts the whole set in
+// place as one, as WriteFiles (a Set from Begin) or CommitFiles (from BeginInPlace) does.
+// Until Commit, dir holds its old files only: a failed Write, Abort, a done context or a
+// killed process leaves no new file in it (a killed one leaves its hidden folder, which the
+// next run removes). A Set's methods are for one goroutine; WriteParts runs its renderers on
+// goroutines of its own and returns when every one has ended.
 type Set struct {
 	ctx     context.Context
 	real    string   // the output folder
@@ -249,11 +251,10 @@ func (s *Set) Write(name string, render func(w io.Writer) error) error {
 	if s.done {
 		return fmt.Errorf("fileset: output %s written after the set was committed or aborted", name)
 	}
-	if !s.pending[name] {
+	if err := s.claim(name); err != nil {
 		s.Abort()
-		return fmt.Errorf("fileset: output %s was not named when the set was begun, or is written twice", name)
+		return err
 	}
-	delete(s.pending, name)
 	if err := s.ctx.Err(); err != nil {
 		s.Abort()
 		return err
@@ -262,6 +263,15 @@ func (s *Set) Write(name string, render func(w io.Writer) error) error {
 		s.Abort()
 		return err
 	}
+	return nil
+}
+
+// claim marks name as written, refusing a name not given to Begin or given twice.
+func (s *Set) claim(name string) error {
+	if !s.pending[name] {
+		return fmt.Errorf("fileset: output %s was not named when the set was begun, or is written twice", name)
+	}
+	delete(s.pending, name)
 	return nil
 }
 

@@ -1,9 +1,11 @@
 package output
 
 import (
+	"bytes"
 	"cmp"
 	"context"
 	"fmt"
+	"io"
 	"math"
 	"slices"
 	"strings"
@@ -130,6 +132,25 @@ func optional(v any, ok bool) any {
 // planGeoPackage renders plan.gpkg: the layers of gpkgLayers, metric whatever the units (as
 // routes.geojson), lengths to the decimetre and decibels to the hundredth as there.
 func planGeoPackage(ctx context.Context, r *route.Result) ([]byte, error) {
+	var buf bytes.Buffer
+	if err := writeGeoPackage(ctx, &buf, r); err != nil {
+		return nil, err
+	}
+	return buf.Bytes(), nil
+}
+
+// writeGeoPackage renders plan.gpkg into w, as planGeoPackage does, without holding the file
+// in memory (gpkgout.WriteTo builds it in a temporary file).
+func writeGeoPackage(ctx context.Context, w io.Writer, r *route.Result) error {
+	layers, err := planLayers(ctx, r)
+	if err != nil {
+		return err
+	}
+	return gpkgout.WriteTo(ctx, w, layers)
+}
+
+// planLayers lays out plan.gpkg's layers (gpkgLayers) with the plan's features.
+func planLayers(ctx context.Context, r *route.Result) ([]gpkgout.Layer, error) {
 	layers := gpkgLayers()
 	byName := map[string]*gpkgout.Layer{}
 	for i := range layers {
@@ -332,7 +353,7 @@ func planGeoPackage(ctx context.Context, r *route.Result) ([]byte, error) {
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
-	return gpkgout.Bytes(ctx, layers)
+	return layers, nil
 }
 
 // addOnce appends link to m[k] unless it is there already. Legs come in link order
@@ -366,15 +387,23 @@ func addedPullPoints(r *route.Result) []pullPoint {
 	}
 	byKey := map[key]*pullPoint{}
 	var keys []key
+	// A leg's junctions, spans and distances along it, for the pulls of one leg after the
+	// other (pulls come in leg order, a leg's sections together): worked out once per leg.
+	leg := -1
+	var juncs []string
+	var cum []float64
+	var spans []geoSpan
 	for _, p := range r.Estimate.Pulls {
 		l := &r.Legs[p.Leg]
-		juncs := r.Site.JunctionsOf(l.Steps)
-		cum := make([]float64, len(l.Steps)+1)
-		spans := make([]geoSpan, len(l.Steps))
-		for j, st := range l.Steps {
-			sp, _ := r.Site.Net.Span(st.SpanID)
-			spans[j] = geoSpan{id: sp.ID, lengthM: sp.LengthM}
-			cum[j+1] = cum[j] + sp.LengthM
+		if p.Leg != leg {
+			leg = p.Leg
+			juncs = r.Site.JunctionsOf(l.Steps)
+			cum, spans = append(cum[:0], 0), spans[:0]
+			for j, st := range l.Steps {
+				sp, _ := r.Site.Net.Span(st.SpanID)
+				spans = append(spans, geoSpan{id: sp.ID, lengthM: sp.LengthM})
+				cum = append(cum, cum[j]+sp.LengthM)
+			}
 		}
 		for _, end := range []struct {
 			added bool

@@ -9,6 +9,7 @@ import (
 	"maps"
 	"math"
 	"regexp"
+	"runtime"
 	"slices"
 	"strconv"
 	"strings"
@@ -59,9 +60,28 @@ func (o WriteOptions) lengthCol(name string) (string, func(m float64) string) {
 type File struct {
 	Name   string
 	Render func(ctx context.Context, w io.Writer) error
+	// Weight is the memory its renderer holds beyond the plan, in MiB as WeightMiB
+	// estimates it, for WriteSet's budget (WriteBudgetMiB): 0 for a file written as it goes
+	// in little memory (routes.geojson, the CSVs, summary.json).
+	Weight int
 }
 
-// Outputs lists the output files of the result, in the order they are rendered:
+// Working memory of the large renderers, in KiB per leg of the plan: the heap above the
+// plan's own at its highest while the file alone was rendered (BenchmarkPlanOutputs, -cpu 1,
+// the generated 5,000-building campus: 5,097 legs, 211 MB live; bom.xlsx 636 MB, report.html
+// 645 MB, plan.gpkg 434 MB at the highest), garbage not yet collected included. Measured
+// figures, no published source.
+const (
+	WorkbookKiBPerLeg   = 84
+	ReportKiBPerLeg     = 86
+	GeoPackageKiBPerLeg = 44
+)
+
+// WeightMiB is the Weight of a large file whose renderer holds kibPerLeg KiB per leg of r.
+func WeightMiB(r *route.Result, kibPerLeg int) int { return 1 + len(r.Legs)*kibPerLeg/1024 }
+
+// Outputs lists the output files of the result, in the set's order (Files renders them in
+// it; WriteSet reports the first failing file in it, though it starts the heaviest first):
 // routes.geojson, links.csv, summary.json, plan.gpkg (unless opt.SkipGeoPackage), and with a
 // bill of materials bom.csv and bom.xlsx (unless opt.SkipWorkbook). Nothing is rendered
 // until a file's Render is called.
@@ -72,12 +92,8 @@ func Outputs(r *route.Result, opt WriteOptions) []File {
 		{Name: "summary.json", Render: func(ctx context.Context, w io.Writer) error { return summaryJSON(w, r) }},
 	}
 	if !opt.SkipGeoPackage {
-		files = append(files, File{Name: geoPackageFileName, Render: func(ctx context.Context, w io.Writer) error {
-			data, err := planGeoPackage(ctx, r)
-			if err == nil {
-				_, err = w.Write(data)
-			}
-			return named(ctx, geoPackageFileName, err)
+		files = append(files, File{Name: geoPackageFileName, Weight: WeightMiB(r, GeoPackageKiBPerLeg), Render: func(ctx context.Context, w io.Writer) error {
+			return named(ctx, geoPackageFileName, writeGeoPackage(ctx, w, r))
 		}})
 	}
 	if r.Estimate == nil || r.Estimate.BOM == nil {
@@ -87,7 +103,7 @@ func Outputs(r *route.Result, opt WriteOptions) []File {
 		return named(ctx, "bom.csv", bomCSV(w, r, opt))
 	}})
 	if !opt.SkipWorkbook {
-		files = append(files, File{Name: "bom.xlsx", Render: func(ctx context.Context, w io.Writer) error {
+		files = append(files, File{Name: "bom.xlsx", Weight: WeightMiB(r, WorkbookKiBPerLeg), Render: func(ctx context.Context, w io.Writer) error {
 			return named(ctx, "bom.xlsx", bomXLSX(ctx, w, r, opt))
 		}})
 	}
@@ -144,27 +160,38 @@ func Write(ctx context.Context, r *route.Result, dir string, opt WriteOptions) e
 }
 
 // WriteSet writes files into dir as one set (fileset.Begin): each is rendered straight into
-// its temporary file and dropped before the next is rendered, so that only one file's
-// rendering is in memory at a time, and the set replaces dir's outputs once every file is
-// whole. A file that fails to render, or ctx done, leaves dir as it was; an output that
-// would replace one of the files in protect is refused before anything is rendered.
+// its temporary file, never held whole, and the set replaces dir's outputs once every file is
+// whole. The files render side by side on up to GOMAXPROCS goroutines (fileset.Set.WriteParts),
+// the heaviest first, and no more of them at once than WriteBudgetMiB allows by their Weight,
+// so that the memory of a large plan's biggest renderers does not add up. A file that fails to
+// render, or ctx done, leaves dir as it was, and the error is the first failing file's in the
+// order of files, whatever the scheduling; an output that would replace one of the files in
+// protect is refused before anything is rendered.
 func WriteSet(ctx context.Context, dir string, files []File, protect []string) error {
 	names := make([]string, len(files))
+	parts := make([]fileset.Part, len(files))
 	for i, f := range files {
 		names[i] = f.Name
+		parts[i] = fileset.Part{Name: f.Name, Render: f.Render, Weight: f.Weight}
 	}
 	set, err := fileset.Begin(ctx, dir, names, protect)
 	if err != nil {
 		return err
 	}
 	defer set.Abort()
-	for _, f := range files {
-		if err := set.Write(f.Name, func(w io.Writer) error { return f.Render(ctx, w) }); err != nil {
-			return err
-		}
+	if err := set.WriteParts(parts, runtime.GOMAXPROCS(0), WriteBudgetMiB); err != nil {
+		return err
 	}
 	return set.Commit()
 }
+
+// WriteBudgetMiB is how much Weight WriteSet renders at once: the memory, in MiB, that the
+// files rendering side by side may hold beyond the plan. bom.xlsx and report.html render side
+// by side up to about 4,200 legs, either of them beside plan.gpkg up to about 5,500; beyond,
+// one at a time. At 5,000 buildings (5,097 legs) plan.gpkg renders beside one of the two
+// and they one after the other, which keeps the plan's peak well under issue 16's 1 GB
+// (README, "Writing the files side by side").
+const WriteBudgetMiB = 700
 
 func round1(x float64) float64 {
 	v, _ := strconv.ParseFloat(strconv.FormatFloat(x, 'f', 1, 64), 64)

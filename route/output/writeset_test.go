@@ -1,27 +1,34 @@
 package output
 
 import (
+	"bytes"
 	"context"
 	"errors"
 	"io"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
+	"sync"
 	"testing"
 
 	"spanwright/route/fileset"
+	"spanwright/route/internal/testplan"
 )
 
-// TestWriteSet: the files are rendered one after the other into the set and put in place
-// together; an output that would replace an input is refused before anything is rendered;
-// a renderer's failure stops the set there, leaving the folder as it was and the files
-// after it unrendered (README, "Outputs": whole or nothing).
+// TestWriteSet: the files are rendered into the set (side by side: fileset's tests check the
+// scheduling) and put in place together; an output that would replace an input is refused
+// before anything is rendered; a renderer's failure fails the set with its error, leaving the
+// folder as it was (README, "Outputs": whole or nothing).
 func TestWriteSet(t *testing.T) {
 	t.Parallel()
+	var mu sync.Mutex
 	var rendered []string
 	file := func(name, body string, err error) File {
 		return File{Name: name, Render: func(_ context.Context, w io.Writer) error {
+			mu.Lock()
 			rendered = append(rendered, name)
+			mu.Unlock()
 			io.WriteString(w, body)
 			return err
 		}}
@@ -30,8 +37,8 @@ func TestWriteSet(t *testing.T) {
 	if err := WriteSet(context.Background(), out, []File{file("b.csv", "old b", nil), file("a.json", "old a", nil)}, nil); err != nil {
 		t.Fatal(err)
 	}
-	if len(rendered) != 2 || rendered[0] != "b.csv" {
-		t.Errorf("rendered %v, want b.csv then a.json, in the order given", rendered)
+	if slices.Sort(rendered); strings.Join(rendered, " ") != "a.json b.csv" {
+		t.Errorf("rendered %v, want a.json and b.csv", rendered)
 	}
 	same := func(when string) {
 		t.Helper()
@@ -58,8 +65,8 @@ func TestWriteSet(t *testing.T) {
 	rendered = nil
 	broken := errors.New("renderer failed")
 	err = WriteSet(context.Background(), out, []File{file("b.csv", "new b", nil), file("a.json", "half", broken), file("c.txt", "new c", nil)}, nil)
-	if err != broken || len(rendered) != 2 {
-		t.Errorf("a failing renderer: error %v after rendering %v; want its error after b.csv and a.json", err, rendered)
+	if slices.Sort(rendered); err != broken || !slices.Contains(rendered, "a.json") || !slices.Contains(rendered, "b.csv") {
+		t.Errorf("a failing renderer: error %v after rendering %v; want its error, after b.csv and a.json", err, rendered)
 	}
 	same("failed")
 }
@@ -79,6 +86,32 @@ func TestNames(t *testing.T) {
 	} {
 		if got := strings.Join(Names(tc.opt, tc.bill), " "); got != tc.want {
 			t.Errorf("Names(%+v, bill %v) = %s, want %s", tc.opt, tc.bill, got, tc.want)
+		}
+	}
+}
+
+// TestWriteSetSameBytes: the demo's files written side by side (WriteSet) are byte for byte
+// those rendered one after the other in memory (Files), in both unit systems, whatever the
+// scheduling.
+func TestWriteSetSameBytes(t *testing.T) {
+	t.Parallel()
+	r := testplan.DemoResult(t)
+	for _, opt := range []WriteOptions{{}, {Units: UnitsImperial}} {
+		want, err := Files(context.Background(), r, opt)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for range 3 {
+			out := filepath.Join(t.TempDir(), "out")
+			if err := WriteSet(context.Background(), out, Outputs(r, opt), nil); err != nil {
+				t.Fatal(err)
+			}
+			for _, f := range want {
+				got, err := os.ReadFile(filepath.Join(out, f.Name))
+				if err != nil || !bytes.Equal(got, f.Data) {
+					t.Errorf("%s (%s): written side by side, %d bytes (%v), differs from the %d rendered alone", f.Name, opt.Units, len(got), err, len(f.Data))
+				}
+			}
 		}
 	}
 }

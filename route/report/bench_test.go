@@ -95,9 +95,12 @@ func BenchmarkSweep(b *testing.B) {
 // reports the heap before writing (live-MB, after a collection: the plan, the site and the
 // caches) and at its highest while writing (peak-MB: heap objects, live and not yet
 // collected, sampled every millisecond from runtime/metrics), and for each file the highest
-// heap while it was rendered (FILE-peak-MB). Run it on one core, once per count:
+// heap while it was rendered (FILE-peak-MB; files rendered side by side share their peaks),
+// and the process's CPU time per write of the set (cpu-ms/op, the heap sampler's included).
+// -cpu 1 renders the files one after the other, -cpu 2 two side by side (WriteSet renders
+// on GOMAXPROCS goroutines):
 //
-//	go test -run '^$' -bench PlanOutputs -benchtime 1x -count 3 -cpu 1 ./route/report/
+//	go test -run '^$' -bench PlanOutputs -benchtime 1x -count 3 -cpu 1,2 ./route/report/
 func BenchmarkPlanOutputs(b *testing.B) {
 	for _, n := range []int{1000, 5000} {
 		b.Run(fmt.Sprintf("buildings_%d", n), func(b *testing.B) {
@@ -107,13 +110,13 @@ func BenchmarkPlanOutputs(b *testing.B) {
 				b.Fatal(err)
 			}
 			files := append(output.Outputs(r, output.WriteOptions{}), Output(r, Options{}))
-			var current atomic.Int32 // the file being rendered, an index into files
-			peaks := make([]atomic.Uint64, len(files)+1)
+			var rendering atomic.Uint64 // the files being rendered, one bit per index into files
+			peaks := make([]atomic.Uint64, len(files))
 			for i := range files {
 				f := files[i]
 				files[i].Render = func(ctx context.Context, w io.Writer) error {
-					current.Store(int32(i))
-					defer current.Store(int32(len(files)))
+					rendering.Or(1 << i)
+					defer rendering.And(^uint64(1 << i))
 					return f.Render(ctx, w)
 				}
 			}
@@ -121,6 +124,7 @@ func BenchmarkPlanOutputs(b *testing.B) {
 			runtime.GC()
 			live := heapObjects()
 			stop := make(chan struct{})
+			var top uint64 // the heap at its highest, read once the sampler has stopped
 			var sampled sync.WaitGroup
 			sampled.Go(func() {
 				tick := time.NewTicker(time.Millisecond)
@@ -130,14 +134,20 @@ func BenchmarkPlanOutputs(b *testing.B) {
 					case <-stop:
 						return
 					case <-tick.C:
-						h, at := heapObjects(), &peaks[current.Load()]
-						if h > at.Load() {
-							at.Store(h)
+						h, on := heapObjects(), rendering.Load()
+						for i := range files {
+							if at := &peaks[i]; on&(1<<i) != 0 && h > at.Load() {
+								at.Store(h)
+							}
+						}
+						if h > top {
+							top = h
 						}
 					}
 				}
 			})
 			b.ReportAllocs()
+			cpu0 := cpuTime()
 			b.ResetTimer()
 			for b.Loop() {
 				if err := output.WriteSet(context.Background(), out, files, r.Inputs()); err != nil {
@@ -145,16 +155,15 @@ func BenchmarkPlanOutputs(b *testing.B) {
 				}
 			}
 			b.StopTimer()
+			b.ReportMetric(float64(cpuTime()-cpu0)/float64(b.N)/1e6, "cpu-ms/op")
 			close(stop)
 			sampled.Wait()
 			const mb = 1 << 20
 			b.ReportMetric(float64(live)/mb, "live-MB")
-			peak := uint64(0)
 			for i := range files {
-				peak = max(peak, peaks[i].Load())
 				b.ReportMetric(float64(peaks[i].Load())/mb, files[i].Name+"-peak-MB")
 			}
-			b.ReportMetric(float64(peak)/mb, "peak-MB")
+			b.ReportMetric(float64(top)/mb, "peak-MB")
 		})
 	}
 }

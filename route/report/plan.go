@@ -310,7 +310,7 @@ const pagePiece = 64 << 10
 // Output is the plan report as one of a plan's output files (FileName), rendered by
 // WritePlan when written (output.WriteSet).
 func Output(r *route.Result, opt Options) output.File {
-	return output.File{Name: FileName, Render: func(ctx context.Context, w io.Writer) error {
+	return output.File{Name: FileName, Weight: output.WeightMiB(r, output.ReportKiBPerLeg), Render: func(ctx context.Context, w io.Writer) error {
 		return WritePlan(ctx, w, r, opt)
 	}}
 }
@@ -915,19 +915,33 @@ func ductRows(fs []estimate.DuctFill) ([]ductRow, int, listed) {
 // pullRows lists every pull section: those over the cable's rated tension first, then by
 // tension relative to the rating, then in leg order.
 func pullRows(r *route.Result, opt Options) ([]pullRow, int, listed) {
-	ps := append([]estimate.PullSection(nil), r.Estimate.Pulls...)
-	ratio := func(p estimate.PullSection) float64 {
+	all := r.Estimate.Pulls
+	ratio := func(p *estimate.PullSection) float64 {
 		if p.RatedN <= 0 {
 			return 0
 		}
 		return p.TensionN / p.RatedN
 	}
-	sort.SliceStable(ps, func(i, j int) bool {
-		a, b := ps[i], ps[j]
+	// The sections' indexes are sorted, not the sections: a large plan has a hundred
+	// thousand of them, and only the first DetailRows are shown.
+	order := make([]int32, len(all))
+	for i := range order {
+		order[i] = int32(i)
+	}
+	before := func(a, b *estimate.PullSection) bool {
 		if a.WithinRating != b.WithinRating {
 			return !a.WithinRating
 		}
 		return ratio(a) > ratio(b)
+	}
+	slices.SortStableFunc(order, func(i, j int32) int {
+		switch a, b := &all[i], &all[j]; {
+		case before(a, b):
+			return -1
+		case before(b, a):
+			return 1
+		}
+		return 0
 	})
 	force := func(n float64) string {
 		if opt.imperial() {
@@ -935,10 +949,11 @@ func pullRows(r *route.Result, opt Options) ([]pullRow, int, listed) {
 		}
 		return group(strconv.FormatFloat(n, 'f', 1, 64))
 	}
-	over := countOf(ps, func(p estimate.PullSection) bool { return !p.WithinRating })
-	shown := listOf(len(ps))
+	over := countOf(all, func(p estimate.PullSection) bool { return !p.WithinRating })
+	shown := listOf(len(all))
 	out := make([]pullRow, shown.Shown)
-	for i, p := range ps[:shown.Shown] {
+	for i, k := range order[:shown.Shown] {
+		p := &all[k]
 		l := &r.Legs[p.Leg]
 		var added []string
 		if p.AddedFrom {

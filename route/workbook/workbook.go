@@ -6,6 +6,7 @@ import (
 	"compress/flate"
 	"context"
 	"encoding/binary"
+	"errors"
 	"fmt"
 	"hash"
 	"hash/crc32"
@@ -166,9 +167,10 @@ type Sheet struct {
 	Filter bool
 	// The rows appended, packed (appendCell) one after the other: a large workbook holds
 	// hundreds of thousands of cells, and a Cell is 64 bytes before its text.
-	rows   []byte
-	nrows  int
-	widest []int // per column, the widest cell appended, in characters as shown
+	rows    []byte
+	nrows   int
+	widest  []int  // per column, the widest cell appended, in characters as shown
+	scratch []byte // a number's text, to measure it
 }
 
 // Append adds a row; a row shorter than the columns ends with blank cells. It panics if the
@@ -183,9 +185,24 @@ func (s *Sheet) Append(cells ...Cell) {
 	s.rows = binary.AppendUvarint(s.rows, uint64(len(cells)))
 	for c, cell := range cells {
 		s.rows = appendCell(s.rows, cell)
-		s.widest[c] = max(s.widest[c], utf8.RuneCountInString(cell.display()))
+		s.widest[c] = max(s.widest[c], s.width(cell))
 	}
 	s.nrows++
+}
+
+// width is the number of characters of c as shown (display), numbers formatted into the
+// sheet's scratch buffer rather than a new string each.
+func (s *Sheet) width(c Cell) int {
+	switch {
+	case c.kind == kindNumber, c.kind == kindFormula && !c.cachedText:
+		format, decimals := byte('f'), c.decimals
+		if c.kind == kindFormula && decimals < 0 {
+			format = 'g'
+		}
+		s.scratch = strconv.AppendFloat(s.scratch[:0], c.num, format, decimals, 64)
+		return len(s.scratch) // digits, sign, point and exponent: one byte a character
+	}
+	return utf8.RuneCountInString(c.display())
 }
 
 // Rows returns the number of rows appended, the header not counted.
@@ -312,7 +329,8 @@ func Ref(col, row int) string {
 
 // Workbook is a set of sheets, written in the order they were added.
 type Workbook struct {
-	sheets []*Sheet
+	sheets    []*Sheet
+	viaSetRow bool // see builder.viaSetRow
 }
 
 // New returns an empty workbook.
@@ -411,8 +429,8 @@ func (w *Workbook) build(ctx context.Context, out io.Writer) (*excelize.File, er
 		seen[key] = true
 	}
 	f := excelize.NewFile()
-	f.SetZipWriter(func(io.Writer) excelize.ZipWriter { return newSortedZip(ctx, out) })
-	b := &builder{ctx: ctx, f: f, styles: map[styleKey]int{}}
+	b := &builder{ctx: ctx, f: f, styles: map[styleKey]int{}, rowsOf: map[string]*Sheet{}, viaSetRow: w.viaSetRow}
+	f.SetZipWriter(func(io.Writer) excelize.ZipWriter { return newSortedZip(ctx, out, b) })
 	for i, s := range w.sheets {
 		err := ctx.Err()
 		if err == nil && i == 0 {
@@ -455,6 +473,13 @@ type builder struct {
 	ctx    context.Context
 	f      *excelize.File
 	styles map[styleKey]int
+	// rowsOf maps the part of each sheet laid out to the sheet, whose rows writeRows writes
+	// into it; sheets counts the sheets laid out.
+	rowsOf map[string]*Sheet
+	sheets int
+	// viaSetRow writes every row through excelize's StreamWriter.SetRow instead, as this
+	// package did before writeRows: the tests' reference for the bytes writeRows writes.
+	viaSetRow bool
 }
 
 // style returns the style for the key, creating styles in first-use order so the output is
@@ -530,6 +555,17 @@ func (b *builder) sheet(s *Sheet) error {
 			return err
 		}
 	}
+	if !b.viaSetRow {
+		// The rows are written when excelize writes the sheet's part (writeRows); excelize
+		// writes the styles before the sheets, so every style the rows use is made now, in
+		// the order the rows first use them.
+		if err := b.registerStyles(s); err != nil {
+			return err
+		}
+		b.rowsOf[sheetPart(b.sheets)] = s
+		b.sheets++
+		return sw.Flush()
+	}
 	err = s.eachRow(func(r int, row []Cell) error {
 		if r%rowCheckEvery == 0 {
 			if err := b.ctx.Err(); err != nil {
@@ -554,6 +590,24 @@ func (b *builder) sheet(s *Sheet) error {
 	}
 	return sw.Flush()
 }
+
+// registerStyles makes the styles of s's cells, in the order its rows first use them.
+func (b *builder) registerStyles(s *Sheet) error {
+	return s.eachRow(func(r int, row []Cell) error {
+		for c, cell := range row {
+			if (cell.kind == kindNumber || cell.kind == kindFormula) && cell.decimals >= 0 {
+				if _, err := b.style(styleKey{decimals: cell.decimals}); err != nil {
+					return fmt.Errorf("cell %s: %w", Ref(c, r+2), err)
+				}
+			}
+		}
+		return nil
+	})
+}
+
+// sheetPart is the name of the part excelize writes the i-th sheet (0-based) of a new file
+// to: the first sheet of a new file is sheet1.xml, and each sheet added takes the next number.
+func sheetPart(i int) string { return "xl/worksheets/sheet" + strconv.Itoa(i+1) + ".xml" }
 
 // value is the stream writer's form of a cell; nil for a blank.
 func (b *builder) value(c Cell) (any, error) {
@@ -601,14 +655,17 @@ type sortedZip struct {
 	w     io.Writer
 	parts map[string]*zipPart
 	open  *zipPart // the part being written: excelize writes one part at a time, as zip.Writer wants
+	b     *builder // whose sheets' rows are spliced into their parts (spliceRows)
+	rowed int      // how many sheets' rows were spliced in
 }
 
 // zipPart is one part, deflated as it is written.
 type zipPart struct {
-	data bytes.Buffer // deflated
-	crc  hash.Hash32  // of the part as written
-	size uint64       // bytes written
-	comp io.WriteCloser
+	data   bytes.Buffer // deflated
+	crc    hash.Hash32  // of the part as written
+	size   uint64       // bytes written
+	comp   io.WriteCloser
+	splice *spliceRows // a sheet's part, into which its rows are written; nil for others
 }
 
 func (p *zipPart) Write(b []byte) (int, error) {
@@ -617,8 +674,8 @@ func (p *zipPart) Write(b []byte) (int, error) {
 	return p.comp.Write(b)
 }
 
-func newSortedZip(ctx context.Context, w io.Writer) excelize.ZipWriter {
-	return &sortedZip{ctx: ctx, w: w, parts: map[string]*zipPart{}}
+func newSortedZip(ctx context.Context, w io.Writer, b *builder) excelize.ZipWriter {
+	return &sortedZip{ctx: ctx, w: w, parts: map[string]*zipPart{}, b: b}
 }
 
 func (z *sortedZip) Create(name string) (io.Writer, error) {
@@ -632,7 +689,12 @@ func (z *sortedZip) Create(name string) (io.Writer, error) {
 	}
 	p.comp = comp
 	z.parts[name], z.open = p, p
-	return ctxio.Writer(z.ctx, p), nil
+	w := ctxio.Writer(z.ctx, p)
+	if s := z.b.rowsOf[name]; s != nil {
+		p.splice = &spliceRows{w: w, rows: func(w io.Writer) error { return z.b.writeRows(w, s) }}
+		return p.splice, nil
+	}
+	return w, nil
 }
 
 // closePart ends the compression of the part being written.
@@ -642,7 +704,59 @@ func (z *sortedZip) closePart() error {
 	}
 	p := z.open
 	z.open = nil
+	if p.splice != nil {
+		if err := p.splice.close(); err != nil {
+			return err
+		}
+		z.rowed++
+	}
 	return p.comp.Close()
+}
+
+// spliceRows passes a sheet's part through, writing the sheet's rows (rows) just before
+// its </sheetData>, which excelize writes once, after the header row.
+type spliceRows struct {
+	w    io.Writer
+	rows func(io.Writer) error
+	held []byte // the end of what was written, which may be the start of the mark
+	done bool   // the rows are written
+}
+
+var sheetDataEnd = []byte("</sheetData>")
+
+func (s *spliceRows) Write(p []byte) (int, error) {
+	if s.done {
+		return s.w.Write(p)
+	}
+	s.held = append(s.held, p...)
+	i := bytes.Index(s.held, sheetDataEnd)
+	if i < 0 {
+		// Keep what could be the start of the mark; pass the rest on.
+		keep := min(len(s.held), len(sheetDataEnd)-1)
+		if _, err := s.w.Write(s.held[:len(s.held)-keep]); err != nil {
+			return 0, err
+		}
+		s.held = append(s.held[:0], s.held[len(s.held)-keep:]...)
+		return len(p), nil
+	}
+	if _, err := s.w.Write(s.held[:i]); err != nil {
+		return 0, err
+	}
+	if err := s.rows(s.w); err != nil {
+		return 0, err
+	}
+	s.done = true
+	_, err := s.w.Write(s.held[i:])
+	s.held = nil
+	return len(p), err
+}
+
+// close fails when the part had no </sheetData>: the rows were not written.
+func (s *spliceRows) close() error {
+	if !s.done {
+		return errors.New("workbook: a sheet's part has no sheetData for its rows")
+	}
+	return nil
 }
 
 func (z *sortedZip) AddFS(fs.FS) error {
@@ -652,6 +766,9 @@ func (z *sortedZip) AddFS(fs.FS) error {
 func (z *sortedZip) Close() error {
 	if err := z.closePart(); err != nil {
 		return err
+	}
+	if z.rowed != len(z.b.rowsOf) {
+		return fmt.Errorf("workbook: the rows of %d sheets were written, of %d", z.rowed, len(z.b.rowsOf))
 	}
 	names := make([]string, 0, len(z.parts))
 	for n := range z.parts {

@@ -1,8 +1,12 @@
 package workbook
 
 import (
+	"archive/zip"
 	"bytes"
+	"fmt"
+	"io"
 	"math"
+	"math/rand/v2"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -425,5 +429,107 @@ func TestRowsPacked(t *testing.T) {
 	}
 	if !slices.Equal(s.widest, widest) {
 		t.Errorf("widest %v, want %v", s.widest, widest)
+	}
+}
+
+// TestRowsAsExcelize: the rows writeRows writes into each sheet's part are byte for byte what
+// excelize's own StreamWriter.SetRow writes (excelize v2.11.1, the reference), for every kind
+// of cell: text that needs escaping, begins or ends with white space, holds _xHHHH_
+// sequences (ECMA-376 Part 1 §22.9.2.19) or runs past the 32,767-character limit of a cell;
+// numbers of every size and sign with each number of decimals (15 significant digits);
+// booleans; formulas with a number, text or no cached value; blanks between cells.
+func TestRowsAsExcelize(t *testing.T) {
+	long := strings.Repeat("ab", maxCellUnits/2) + "😀tail" // the emoji straddles the limit
+	texts := []string{"", "plain", "a & b < c > d", `quote " and ' apostrophe`, " lead", "trail ",
+		"\ttab", "line\nfeed", "cr\rhere", "é ü 中文", "bad \xff utf-8", "_x0041_", "_x005F_",
+		"_x005F_x0041_", "_x005F_xZZZZ_", "_xD800_ lone half", "a_x00e9_b_x005f_c", long,
+		"=1+2", "\u202e hidden", "end\n"}
+	rng := rand.New(rand.NewPCG(16, 7))
+	w := New()
+	for sh := range 3 {
+		cols := make([]Column, 9)
+		for c := range cols {
+			cols[c] = Column{Name: fmt.Sprintf("column %d", c), Unit: "m"}
+		}
+		s := w.AddSheet(fmt.Sprintf("sheet %d", sh), cols...)
+		s.Filter = sh != 1
+		for r := range 400 {
+			x := (rng.Float64() - 0.5) * math.Pow(10, float64(rng.IntN(44)-22))
+			switch r % 9 {
+			case 1:
+				x = math.MaxFloat64
+			case 2:
+				x = -math.SmallestNonzeroFloat64
+			case 3:
+				x = float64(rng.Int64())
+			}
+			text := texts[r%len(texts)]
+			row := []Cell{
+				{kind: kindText, text: text},
+				Text(text),
+				Number(x, rng.IntN(MaxDecimals+2)-1),
+				Int(rng.Int64N(1 << 40)),
+				Bool(r%2 == 0),
+				Formula(fmt.Sprintf("SUM(C%d:D%d)", r+2, r+2), x, rng.IntN(4)-1),
+				FormulaText(fmt.Sprintf("IF(E%d,\"yes\",\"\")", r+2), text),
+				Formula("1/0", math.NaN(), 2),
+			}
+			if r%5 == 0 {
+				row[3] = Blank()
+			}
+			s.Append(row[:1+r%len(row)]...)
+		}
+	}
+	got, err := w.Bytes()
+	if err != nil {
+		t.Fatal(err)
+	}
+	w.viaSetRow = true
+	want, err := w.Bytes()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !bytes.Equal(got, want) {
+		gs, ws := sheetXML(t, got, "xl/worksheets/sheet1.xml"), sheetXML(t, want, "xl/worksheets/sheet1.xml")
+		i := 0
+		for i < len(gs) && i < len(ws) && gs[i] == ws[i] {
+			i++
+		}
+		t.Fatalf("rows differ from excelize's (%d and %d bytes); sheet1 first differs at byte %d:\n got %.200q\nwant %.200q", len(got), len(want), i, gs[max(0, i-40):], ws[max(0, i-40):])
+	}
+}
+
+// sheetXML is the uncompressed part name of the .xlsx data.
+func sheetXML(t *testing.T, data []byte, name string) string {
+	t.Helper()
+	zr, err := zip.NewReader(bytes.NewReader(data), int64(len(data)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	f, err := zr.Open(name)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	b, err := io.ReadAll(f)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return string(b)
+}
+
+// TestWidthAsDisplayed: a cell's width, measured without building its text, is the number of
+// characters of the text a spreadsheet shows (display) for every kind of cell.
+func TestWidthAsDisplayed(t *testing.T) {
+	rng := rand.New(rand.NewPCG(16, 8))
+	s := &Sheet{}
+	for i := range 2000 {
+		x := (rng.Float64() - 0.5) * math.Pow(10, float64(rng.IntN(60)-30))
+		d := rng.IntN(MaxDecimals+2) - 1
+		for _, c := range []Cell{Number(x, d), Formula("A1", x, d), Formula("A1", math.NaN(), d), FormulaText("A1", "é"), Text("ü"), Bool(i%2 == 0), Blank(), Int(rng.Int64())} {
+			if got, want := s.width(c), utf8.RuneCountInString(c.display()); got != want {
+				t.Fatalf("%+v: width %d, shown as %q (%d characters)", c, got, c.display(), want)
+			}
+		}
 	}
 }
