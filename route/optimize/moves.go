@@ -207,14 +207,12 @@ func (sv *solver) closeSet(id int32, edges, users []int32, save int64) bool {
 	// A user the forbidden edges cut off would be left unrouted, which no plan cost repays: the
 	// move fails whatever the reroutes find, so it is not tried (a turn handhole at the tee of
 	// a building's only lateral is the usual case).
-	for _, d := range users {
-		if !sv.joined(int(d)) {
-			for _, e := range edges {
-				sv.forbid[e] = false
-			}
-			sv.failedClose[id] = sig
-			return false
+	if !sv.joinedAll(users) {
+		for _, e := range edges {
+			sv.forbid[e] = false
 		}
+		sv.failedClose[id] = sig
+		return false
 	}
 	olds := make([]choice, 0, len(users))
 	var done []int32
@@ -822,11 +820,9 @@ func (sv *solver) swapMoves() bool {
 func (sv *solver) trySwap(out, in int32, users, moved []int32) bool {
 	before := sv.key()
 	sv.forbid[out] = true
-	for _, d := range users {
-		if !sv.joined(int(d)) {
-			sv.forbid[out] = false
-			return false
-		}
+	if !sv.joinedAll(users) {
+		sv.forbid[out] = false
+		return false
 	}
 	sv.setPhantom(in, true)
 	olds := make([]choice, len(moved))
@@ -1171,6 +1167,40 @@ func (sv *solver) joined(d int) bool {
 	return src == dst || (sv.reaches(src, dst) && sv.reaches(dst, src))
 }
 
+// joinedAll reports whether joined holds for every demand of ds, the forbidden edges fixed
+// meanwhile. A walk that goes past joinBudget says yes whatever it looks for, so it is taken
+// once per node: the users of a span share their cross-connect, whose walk is the long one.
+func (sv *solver) joinedAll(ds []int32) bool {
+	if sv.joinWide == nil {
+		sv.joinWide = make([]uint32, sv.net.nodes)
+	}
+	sv.joinEpoch++
+	if sv.joinEpoch == 0 {
+		clear(sv.joinWide)
+		sv.joinEpoch = 1
+	}
+	sv.joinOn = true
+	defer func() { sv.joinOn = false }() // the forbidden edges may change after
+	for _, d := range ds {
+		if !sv.joined(int(d)) {
+			return false
+		}
+	}
+	return true
+}
+
+// markWide records, within joinedAll, that the nodes of a walk lie in a part of the network
+// (over the edges not forbidden) of more than joinBudget nodes: a walk from any of them would
+// go past the budget too, so it says yes at once.
+func (sv *solver) markWide(queue []int32) {
+	if !sv.joinOn {
+		return
+	}
+	for _, v := range queue {
+		sv.joinWide[v] = sv.joinEpoch
+	}
+}
+
 // joinBudget is how many nodes joined looks at from one end before it says yes.
 const joinBudget = 256
 
@@ -1181,6 +1211,9 @@ func (sv *solver) reaches(src, dst int32) bool {
 	if sv.joinSeen == nil {
 		sv.joinSeen = make([]uint32, n.nodes)
 	}
+	if sv.joinOn && sv.joinWide[src] == sv.joinEpoch {
+		return true
+	}
 	sv.joinStamp++
 	stamp := sv.joinStamp
 	queue := append(sv.joinQueue[:0], src)
@@ -1188,6 +1221,7 @@ func (sv *solver) reaches(src, dst int32) bool {
 	defer func() { sv.joinQueue = queue }()
 	for i := 0; i < len(queue); i++ {
 		if len(queue) > joinBudget {
+			sv.markWide(queue)
 			return true
 		}
 		v := queue[i]
@@ -1196,6 +1230,10 @@ func (sv *solver) reaches(src, dst int32) bool {
 				continue
 			}
 			if a.to == dst {
+				return true
+			}
+			if sv.joinOn && sv.joinWide[a.to] == sv.joinEpoch {
+				sv.markWide(queue)
 				return true
 			}
 			sv.joinSeen[a.to] = stamp

@@ -118,3 +118,60 @@ func joinedWithout(p *Problem, a, b int, skip int32) bool {
 	}
 	return false
 }
+
+// TestJoinedAllAsOneByOne: joinedAll, which takes a walk past joinBudget once per part of the
+// network, says what joined says demand by demand, whatever the order of the demands and the
+// forbidden edges (a one-entrance building's lateral cut off, spans on shared trunks).
+func TestJoinedAllAsOneByOne(t *testing.T) {
+	p := campus(campusSpec{buildings: 120, seed: 6, diverseFrac: 0.1, options: 1, capacity: true, proposedPct: 20})
+	oneEntrance(p)
+	sv := newSolver(p, Settings{})
+	var all []int32
+	for d := range p.Demands {
+		if sv.invalid[d] == "" {
+			all = append(all, int32(d))
+		}
+	}
+	cuts := 0
+	for trial := 0; trial < 40; trial++ {
+		var forbidden []int32
+		for k := 0; k < 1+trial%4; k++ {
+			forbidden = append(forbidden, int32((trial*7919+k*104729)%len(p.Edges)))
+		}
+		for _, e := range forbidden {
+			sv.forbid[e] = true
+		}
+		want := true
+		for _, d := range all {
+			j := sv.joined(int(d))
+			want = want && j
+			cuts += b2i(!j)
+		}
+		order := append([]int32(nil), all...)
+		for i := range order { // another order every trial
+			k := (i*31 + trial) % len(order)
+			order[i], order[k] = order[k], order[i]
+		}
+		if got := sv.joinedAll(order); got != want {
+			t.Fatalf("trial %d, forbidden %v: joinedAll %v, one by one %v", trial, forbidden, got, want)
+		}
+		for _, d := range order {
+			if got, want := sv.joinedAll([]int32{d}), sv.joined(int(d)); got != want {
+				t.Fatalf("trial %d demand %d: joinedAll %v, joined %v", trial, d, got, want)
+			}
+		}
+		for _, e := range forbidden {
+			sv.forbid[e] = false
+		}
+	}
+	if cuts == 0 {
+		t.Fatal("no forbidden edge cut a demand off: the test checks only the yes answers")
+	}
+}
+
+func b2i(b bool) int {
+	if b {
+		return 1
+	}
+	return 0
+}

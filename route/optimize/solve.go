@@ -207,10 +207,14 @@ type solver struct {
 	chTouch  []int32
 	chSelf   []int32
 	chSelfSt []uint32
-	// joinSeen, joinStamp and joinQueue are the scratch of joined.
+	// joinSeen, joinStamp and joinQueue are the scratch of joined; joinWide marks the nodes
+	// whose walk went past joinBudget while joinEpoch held, within joinedAll (joinOn).
 	joinSeen  []uint32
 	joinStamp uint32
 	joinQueue []int32
+	joinWide  []uint32
+	joinEpoch uint32
+	joinOn    bool
 	// warm is Settings.Start, the warm start (startWarm).
 	warm []StartRoute
 	// startUnused are the demands whose start route did not fit (Solution.StartUnused).
