@@ -131,3 +131,30 @@ func b2i(b bool) int {
 	}
 	return 0
 }
+
+// BenchmarkAroundOptimizer times what a plan spends outside the optimizer and the files on the
+// generated 1,000-building campus: stating the routing problem, the legs and their media, and
+// the estimate. The optimizer's solution is remembered from a first solve (the site's Solved
+// cache, by the problem's fingerprint), the pull plans are forgotten and each iteration gets a
+// new engine, as a fresh plan has. Run it on one core:
+// go test -run '^$' -bench AroundOptimizer -benchmem -cpu 1 -count 3 ./route/
+func BenchmarkAroundOptimizer(b *testing.B) {
+	s, p := testplan.CampusSite(b, 1000)
+	if _, err := route.Solve(context.Background(), s, p); err != nil {
+		b.Fatal(err)
+	}
+	b.ReportAllocs()
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		b.StopTimer()
+		s.Pulls.Purge()
+		eng, err := plan.Engine(p)
+		if err != nil {
+			b.Fatal(err)
+		}
+		b.StartTimer()
+		if _, err := route.SolveWith(context.Background(), s, p, eng); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
