@@ -284,8 +284,11 @@ func (e *Engine) variants(l Link, a *Application, m *Medium, k *Construction) []
 	if in := e.transitionInside(l, m, k, strandsFor(l, a, m)); in != nil {
 		return []*Construction{nil, in}
 	}
-	return []*Construction{nil}
+	return asItIs
 }
+
+// asItIs is the variants of a construction without a transition; read only.
+var asItIs = []*Construction{nil}
 
 // blend is construction k with its attenuation mixed with inside's by length: insideM of
 // lengthM metres in the inside construction, the rest in k. Only the attenuation is used.
@@ -353,8 +356,9 @@ func (e *Engine) evaluate(c *candidate, l Link, at lengths, mi, ai, ki int, insi
 	m, a := e.cat.Media[mi], e.cat.Applications[ai]
 	k := m.Constructions[ki]
 	channel := at.channelM
+	prefer := c.prefer[:0] // a candidate evaluated again (feasibleAt's scratch) keeps its array
 	*c = candidate{m: m, a: a, k: k, mi: mi, ai: ai, ki: ki, failed: -1, strands: strandsFor(l, a, m),
-		lossK: k, splices: l.Splices + e.termSplices(m)}
+		lossK: k, splices: l.Splices + e.termSplices(m), prefer: prefer}
 	if inside != nil {
 		c.inside, c.splices = inside, c.splices+2
 		c.lossK = blend(k, inside, l.RiserM, channel)
@@ -816,11 +820,10 @@ func (e *Engine) reason(l Link, win *candidate, ok []*candidate) (string, string
 }
 
 // feasibleAt reports whether medium mi carries l at channelM metres with some application
-// and construction.
-func (e *Engine) feasibleAt(l Link, mi int, channelM float64) bool {
+// and construction; c is scratch space, its contents of no meaning after.
+func (e *Engine) feasibleAt(c *candidate, l Link, mi int, channelM float64) bool {
 	at := trialLengths(l, channelM)
 	m := e.cat.Media[mi]
-	var c candidate
 	for ai, a := range e.cat.Applications {
 		rs := e.reachesOn(a, m.ID)
 		if len(rs) == 0 || a.RateGbps != l.RateGbps || channelM > longestRange(rs) {
@@ -828,7 +831,7 @@ func (e *Engine) feasibleAt(l Link, mi int, channelM float64) bool {
 		}
 		for ki, k := range m.Constructions {
 			for _, inside := range e.variants(l, a, m, k) {
-				if e.evaluate(&c, l, at, mi, ai, ki, inside); c.failed < 0 {
+				if e.evaluate(c, l, at, mi, ai, ki, inside); c.failed < 0 {
 					return true
 				}
 			}
@@ -898,14 +901,15 @@ func (e *Engine) maxChannelM(medium string, rateGbps, futureRateGbps float64, l 
 	}
 	sort.Float64s(points)
 	points = slices.Compact(points)
+	var c candidate // one for every trial: a candidate is large
 	for i := len(points) - 1; i >= 0; i-- {
 		x := points[i]
 		if x <= 0 || (i+1 < len(points) && points[i+1] == x) {
 			continue
 		}
 		for _, y := range []float64{x, x * (1 - 1e-9)} {
-			if e.feasibleAt(l, mi, y) {
-				return e.refine(l, mi, y, points[i+1:])
+			if e.feasibleAt(&c, l, mi, y) {
+				return e.refine(&c, l, mi, y, points[i+1:])
 			}
 		}
 	}
@@ -914,17 +918,17 @@ func (e *Engine) maxChannelM(medium string, rateGbps, futureRateGbps float64, l 
 
 // refine extends a feasible length lo towards the next breakpoint above it, in case a rule
 // compares facts in a way the breakpoints do not capture; it bisects to 1 mm.
-func (e *Engine) refine(l Link, mi int, lo float64, above []float64) float64 {
+func (e *Engine) refine(c *candidate, l Link, mi int, lo float64, above []float64) float64 {
 	if len(above) == 0 {
 		return lo
 	}
 	hi := above[0]
-	if !e.feasibleAt(l, mi, (lo+hi)/2) {
+	if !e.feasibleAt(c, l, mi, (lo+hi)/2) {
 		return lo
 	}
 	for hi-lo > 0.001 {
 		mid := (lo + hi) / 2
-		if e.feasibleAt(l, mi, mid) {
+		if e.feasibleAt(c, l, mi, mid) {
 			lo = mid
 		} else {
 			hi = mid
