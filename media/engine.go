@@ -62,6 +62,8 @@ type Engine struct {
 	maxMemo *lru.Cache[maxKey, float64]
 	// chosen caches Choose by chooseKey, bounded so a long sweep's memory stays flat.
 	chosen *lru.Cache[chooseKey, Choice]
+	// reachID digests what MaxChannelM depends on besides its arguments (ReachMemo).
+	reachID [32]byte
 }
 
 // chooseCacheSize bounds the choices an engine remembers: about a hundred scenarios' legs
@@ -146,6 +148,7 @@ func NewEngine(c *Catalog, r *Rules, p *PriceBook, opt EngineOptions) (*Engine, 
 	// lru.New errs only on a size <= 0.
 	e.chosen, _ = lru.New[chooseKey, Choice](chooseCacheSize)
 	e.maxMemo, _ = lru.New[maxKey, float64](4 * chooseCacheSize)
+	e.reachID = reachID(e)
 	return e, nil
 }
 
@@ -850,9 +853,7 @@ func (e *Engine) feasibleAt(c *candidate, l Link, mi int, channelM float64) bool
 // the rate on the medium. It returns 0 when the medium never carries the rate for such a link,
 // or is unknown.
 func (e *Engine) MaxChannelM(medium string, rateGbps, futureRateGbps float64, l Link) float64 {
-	k := maxKey{medium: medium, rate: rateGbps, future: futureRateGbps, riser: l.RiserM, slack: l.SlackM,
-		emi: l.MaxEMI, outdoor: l.Outdoor, plenum: l.Plenum, types: strings.Join(l.PathwayTypes, ","), pairs: l.ConnectorPairs,
-		splices: l.Splices, strands: l.Strands, copper: l.CopperCables, insideA: l.InsideAM, insideB: l.InsideBM}
+	k := maxKeyOf(medium, rateGbps, futureRateGbps, l)
 	if v, ok := e.maxMemo.Get(k); ok {
 		return v
 	}
@@ -861,7 +862,14 @@ func (e *Engine) MaxChannelM(medium string, rateGbps, futureRateGbps float64, l 
 	return v
 }
 
-// maxKey is what MaxChannelM's answer depends on.
+// maxKeyOf is MaxChannelM's question as a key.
+func maxKeyOf(medium string, rateGbps, futureRateGbps float64, l Link) maxKey {
+	return maxKey{medium: medium, rate: rateGbps, future: futureRateGbps, riser: l.RiserM, slack: l.SlackM,
+		emi: l.MaxEMI, outdoor: l.Outdoor, plenum: l.Plenum, types: strings.Join(l.PathwayTypes, ","), pairs: l.ConnectorPairs,
+		splices: l.Splices, strands: l.Strands, copper: l.CopperCables, insideA: l.InsideAM, insideB: l.InsideBM}
+}
+
+// maxKey is what MaxChannelM's answer depends on (with the engine).
 type maxKey struct {
 	medium                     string
 	rate, future, riser, slack float64

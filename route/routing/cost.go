@@ -113,13 +113,13 @@ type allowedKey struct {
 // allowed reports whether the rules let medium carry a link of rate (and future rate) and
 // strands on spans of class c, at some length, with no risers or slack: the rules that depend
 // on the whole route or its ends are the media choice's to apply, on the route's own facts.
-func (m *Model) allowed(medium string, rate, future float64, strands int, c spanClass) bool {
+func (m *Model) allowed(s *site.Site, medium string, rate, future float64, strands int, c spanClass) bool {
 	k := allowedKey{medium, rate, future, strands, c}
 	if v, ok := m.allowedMemo[k]; ok {
 		return v
 	}
 	l := c.facts(media.Link{ConnectorPairs: ConnectorPairs, Strands: strands})
-	v := m.eng.MaxChannelM(medium, rate, future, l) > 0
+	v := s.Reaches.MaxChannelM(m.eng, medium, rate, future, l) > 0
 	m.allowedMemo[k] = v
 	return v
 }
@@ -363,17 +363,17 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link) (optimize.Demand,
 	}
 	for _, med := range m.eng.Media() {
 		mm := m.eng.Catalog().Medium(med)
-		if lateral > 0 && !m.allowed(med, rate, future, strands, lateralClass) {
+		if lateral > 0 && !m.allowed(s, med, rate, future, strands, lateralClass) {
 			info.excluded = append(info.excluded, fmt.Sprintf("%s: the route leaves a building over a lateral: %s", med, m.whyNot(med, facts, lateralClass)))
 			continue
 		}
 		var exclude uint64
 		for _, c := range lay.classes {
-			if !m.allowed(med, rate, future, strands, c) {
+			if !m.allowed(s, med, rate, future, strands, c) {
 				exclude |= lay.classBit[c]
 			}
 		}
-		maxCh := m.eng.MaxChannelM(med, rate, future, facts)
+		maxCh := s.Reaches.MaxChannelM(m.eng, med, rate, future, facts) // shared by a sweep's price books
 		maxRoute := maxCh - riser - slack - lateral
 		perM := m.cableFor(med, rate, facts, coils+2*endLoops)
 		fixed := m.eng.FixedCentsFor(med, rate, facts)
