@@ -141,7 +141,7 @@ func NewEngine(c *Catalog, r *Rules, p *PriceBook, opt EngineOptions) (*Engine, 
 	for _, a := range c.Applications {
 		for _, m := range c.Media {
 			if rs := c.ReachesOn(a, m.ID); len(rs) > 0 {
-				e.reaches[reachKey{a, m.ID}] = rs
+				e.reaches[reachKey{a, m}] = rs
 			}
 		}
 	}
@@ -152,14 +152,16 @@ func NewEngine(c *Catalog, r *Rules, p *PriceBook, opt EngineOptions) (*Engine, 
 	return e, nil
 }
 
+// reachKey is an application and a medium of the engine's catalog, by pointer: cheaper to
+// hash than the medium's ID, and asked for on every candidate.
 type reachKey struct {
-	a      *Application
-	medium string
+	a *Application
+	m *Medium
 }
 
-// reachesOn is Catalog.ReachesOn(a, medium), computed once.
-func (e *Engine) reachesOn(a *Application, medium string) []Reach {
-	return e.reaches[reachKey{a, medium}]
+// reachesOn is Catalog.ReachesOn(a, m.ID), computed once.
+func (e *Engine) reachesOn(a *Application, m *Medium) []Reach {
+	return e.reaches[reachKey{a, m}]
 }
 
 // checkRule reports rule references the catalog cannot satisfy, and collects breakpoints.
@@ -367,7 +369,7 @@ func (e *Engine) evaluate(c *candidate, l Link, at lengths, mi, ai, ki int, insi
 		c.lossK = blend(k, inside, l.RiserM, channel)
 	}
 	c.repair = e.repairSplices(m, outsideM(l, at))
-	c.b = e.budgetFor(c.lossK, a, e.reachesOn(a, m.ID), channel, l.ConnectorPairs, c.splices, e.requiredMarginDB(m, c.repair))
+	c.b = e.budgetFor(c.lossK, a, e.reachesOn(a, m), channel, l.ConnectorPairs, c.splices, e.requiredMarginDB(m, c.repair))
 	c.r, c.losses = c.b.r, c.b.losses
 	f := &c.f
 	f[fChannelM].num = channel
@@ -466,7 +468,7 @@ func (e *Engine) future(l Link, c *candidate) {
 	var bestR Reach
 	bestMargin, bestScore := 0.0, -1
 	for _, a := range e.cat.Applications {
-		rs := e.reachesOn(a, c.m.ID)
+		rs := e.reachesOn(a, c.m)
 		if len(rs) == 0 || a.RateGbps != l.FutureRateGbps {
 			continue
 		}
@@ -630,7 +632,7 @@ func (e *Engine) choose(l Link) Choice {
 			continue
 		}
 		for mi, m := range e.cat.Media {
-			if len(e.reachesOn(a, m.ID)) == 0 {
+			if len(e.reachesOn(a, m)) == 0 {
 				continue
 			}
 			for ki, k := range m.Constructions {
@@ -828,7 +830,7 @@ func (e *Engine) feasibleAt(c *candidate, l Link, mi int, channelM float64) bool
 	at := trialLengths(l, channelM)
 	m := e.cat.Media[mi]
 	for ai, a := range e.cat.Applications {
-		rs := e.reachesOn(a, m.ID)
+		rs := e.reachesOn(a, m)
 		if len(rs) == 0 || a.RateGbps != l.RateGbps || channelM > longestRange(rs) {
 			continue
 		}
@@ -898,7 +900,7 @@ func (e *Engine) maxChannelM(medium string, rateGbps, futureRateGbps float64, l 
 	// the applications' ranges, and the lengths at which a loss budget closes exactly.
 	points := append([]float64(nil), e.breakpoints...)
 	for _, a := range e.cat.Applications {
-		rs := e.reachesOn(a, m.ID)
+		rs := e.reachesOn(a, m)
 		if len(rs) == 0 || (a.RateGbps != rateGbps && a.RateGbps != futureRateGbps) {
 			continue
 		}
@@ -1022,7 +1024,7 @@ func (e *Engine) CableFor(medium string, rateGbps float64, l Link) int64 {
 search:
 	for _, k := range ks {
 		for ai, a := range e.cat.Applications {
-			if len(e.reachesOn(a, m.ID)) == 0 || a.RateGbps != rateGbps {
+			if len(e.reachesOn(a, m)) == 0 || a.RateGbps != rateGbps {
 				continue
 			}
 			if e.evaluate(&c, l, at, mi, ai, k.ki, nil); c.failed < 0 {
@@ -1057,7 +1059,7 @@ func (e *Engine) FixedCentsFor(medium string, rateGbps float64, l Link) int64 {
 	term, _ := e.prices.Price(PriceKey{Item: PriceTermination, Medium: m.ID})
 	best := int64(-1)
 	for _, a := range e.cat.Applications {
-		if len(e.reachesOn(a, m.ID)) == 0 || a.RateGbps != rateGbps {
+		if len(e.reachesOn(a, m)) == 0 || a.RateGbps != rateGbps {
 			continue
 		}
 		trx, _ := e.prices.Price(PriceKey{Item: PriceTransceiver, Name: a.Transceiver})

@@ -97,7 +97,7 @@ func (e *Engine) insideKey(medium string, rateGbps float64, l Link) string {
 	}
 	var b strings.Builder
 	for _, a := range e.cat.Applications {
-		if a.RateGbps != rateGbps || len(e.reachesOn(a, m.ID)) == 0 {
+		if a.RateGbps != rateGbps || len(e.reachesOn(a, m)) == 0 {
 			continue
 		}
 		if in, _ := e.constructionFor(m, strandsFor(l, a, m), false); in != nil {

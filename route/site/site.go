@@ -32,6 +32,8 @@ type Site struct {
 	dist     sync.Map        // building ID → map[string]float64, see distancesFrom
 	adjOnce  sync.Once
 	adj      *adjacency // junctions joined by spans (spanAdjacency)
+	segOnce  sync.Once
+	segs     map[string][]float64 // span ID → geo.Span.SegmentsM (SegmentsM)
 
 	// Solved keeps the optimizer's solutions of the routing problems solved on this site, by
 	// fingerprint of the canonical problem (see package routing), and Pulls the pull plans of
@@ -197,6 +199,22 @@ func (s *Site) Unreachable(hub string) []string {
 		}
 	}
 	return out
+}
+
+// SegmentsM is the lengths of span sp's segments in metres (geo.Span.SegmentsM), computed
+// once per site for every span of its network: the estimate asks them for every span of every
+// leg of every scenario. The slice is shared and must not be modified.
+func (s *Site) SegmentsM(sp *geo.Span) []float64 {
+	s.segOnce.Do(func() {
+		s.segs = make(map[string][]float64, len(s.Net.Spans))
+		for i := range s.Net.Spans {
+			s.segs[s.Net.Spans[i].ID] = s.Net.Spans[i].SegmentsM()
+		}
+	})
+	if v, ok := s.segs[sp.ID]; ok {
+		return v
+	}
+	return sp.SegmentsM() // a span not of this site's network
 }
 
 // Access is the building's access point to the network (zero when the building has none).
