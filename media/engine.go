@@ -7,6 +7,7 @@ import (
 	"slices"
 	"sort"
 	"strings"
+	"sync"
 
 	lru "github.com/hashicorp/golang-lru/v2"
 
@@ -643,8 +644,15 @@ func (e *Engine) choose(l Link) Choice {
 		}
 	}
 	at := linkLengths(l)
-	// The candidates are large (every fact of the rule language): one allocation for all.
-	pool := make([]candidate, len(specs))
+	// The candidates are large (every fact of the rule language): one slice for all, taken
+	// from those earlier choices left. Nothing of a candidate outlives choose but what the
+	// Choice copies (its losses are allocated per evaluation), so the slice goes back after.
+	held := candidates.Get().(*[]candidate)
+	pool := slices.Grow((*held)[:0], len(specs))[:len(specs)]
+	defer func() {
+		*held = pool[:0]
+		candidates.Put(held)
+	}()
 	all := make([]*candidate, len(specs))
 	var ok []*candidate
 	for i, s := range specs {
@@ -697,6 +705,9 @@ func (e *Engine) choose(l Link) Choice {
 	ch.Reason, ch.Code = e.reason(l, win, ok)
 	return ch
 }
+
+// candidates holds the candidate slices of finished choices, for the next (choose).
+var candidates = sync.Pool{New: func() any { return new([]candidate) }}
 
 // better ranks feasible candidates: prefer rules, cost, margin, catalog order.
 func better(a, b *candidate) bool {
