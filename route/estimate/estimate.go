@@ -565,6 +565,22 @@ func (r *run) connectivity() {
 	p := r.Engine.PriceBook()
 	sizes, cents := counts(p, media.PriceAdapterPanel, media.PriceEnclosure, media.PriceCopperPanel)
 	panels, encl, copper := sizes[media.PriceAdapterPanel], sizes[media.PriceEnclosure], sizes[media.PriceCopperPanel]
+	// The covers asked for, by item and port count: most cable ends terminate the same few
+	// strand counts and most buildings hold the same few ports. Read only; kept maps are cloned.
+	type coverKey struct {
+		item string
+		n    int
+	}
+	covers := map[coverKey]map[int]int{}
+	coverOf := func(item string, sizes []int, n int) map[int]int {
+		k := coverKey{item, n}
+		v, ok := covers[k]
+		if !ok {
+			v = cover(sizes, cents[item], n)
+			covers[k] = v
+		}
+		return v
+	}
 	byB := map[string]*Connectivity{}
 	get := func(b string) *Connectivity {
 		c, ok := byB[b]
@@ -586,7 +602,7 @@ func (r *run) connectivity() {
 				continue
 			}
 			c.FibreStrands += l.Cable.Terminated
-			for size, n := range cover(panels, cents[media.PriceAdapterPanel], l.Cable.Terminated) {
+			for size, n := range coverOf(media.PriceAdapterPanel, panels, l.Cable.Terminated) {
 				c.AdapterPanels[size] += n
 			}
 			c.SpliceTrays += p.TraysFor(l.Cable.Terminated)
@@ -606,8 +622,8 @@ func (r *run) connectivity() {
 		if c.FibreStrands > 0 && len(panels) == 0 {
 			ports = c.FibreStrands
 		}
-		c.Enclosures = cover(encl, cents[media.PriceEnclosure], ports)
-		c.CopperPanels = cover(copper, cents[media.PriceCopperPanel], c.CopperCables)
+		c.Enclosures = maps.Clone(coverOf(media.PriceEnclosure, encl, ports))
+		c.CopperPanels = maps.Clone(coverOf(media.PriceCopperPanel, copper, c.CopperCables))
 		r.Estimate.Buildings = append(r.Estimate.Buildings, *c)
 	}
 }
