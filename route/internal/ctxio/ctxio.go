@@ -48,11 +48,14 @@ const EachWorkers = 2
 
 // Each calls f(i) for every i in [0, n) on up to EachWorkers goroutines (no more than
 // GOMAXPROCS), and returns ctx's error when ctx is done before every call was made (those not
-// begun are not made), else nil. f must write only what belongs to its own i (a slot of a
-// slice made beforehand) and read what no other call writes, so that the caller, assembling
-// the slots in index order, gets the same bytes whatever the number of cores.
+// begun are not made), else nil. It looks at ctx once per StopStride indices, before the
+// first of them, as a loop calling StopEvery does, so that the looks a run takes are the same
+// in number whatever the goroutines (tests stop runs at a counted look: geo/ctxtest). f must
+// write only what belongs to its own i (a slot of a slice made beforehand) and read what no
+// other call writes, so that the caller, assembling the slots in index order, gets the same
+// bytes whatever the number of cores.
 func Each(ctx context.Context, n int, f func(i int)) error {
-	workers := min(EachWorkers, runtime.GOMAXPROCS(0), n)
+	workers := min(EachWorkers, runtime.GOMAXPROCS(0), (n+StopStride-1)/StopStride)
 	if workers <= 1 {
 		for i := 0; i < n; i++ {
 			if err := StopEvery(ctx, i); err != nil {
@@ -68,13 +71,16 @@ func Each(ctx context.Context, n int, f func(i int)) error {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			for k := 0; ; k++ { // k counts this worker's calls: it looks at ctx as StopEvery does
-				i := int(next.Add(1) - 1)
-				if i >= n || StopEvery(ctx, k) != nil {
+			for { // blocks of StopStride indices, taken in turn
+				start := int(next.Add(1)-1) * StopStride
+				if start >= n || ctx.Err() != nil {
 					return
 				}
-				f(i)
-				made.Add(1)
+				end := min(n, start+StopStride)
+				for i := start; i < end; i++ {
+					f(i)
+				}
+				made.Add(int64(end - start))
 			}
 		}()
 	}
