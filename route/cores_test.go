@@ -9,7 +9,6 @@ import (
 	"spanwright/route"
 	"spanwright/route/internal/testplan"
 	"spanwright/route/output"
-	"spanwright/route/plan"
 )
 
 // TestSameBytesAnyCores plans a generated campus (diverse links, pulls through full ducts) with
@@ -23,11 +22,7 @@ func TestSameBytesAnyCores(t *testing.T) {
 		s.Solved.Purge()
 		s.Pulls.Purge()
 		s.Reaches.Purge()
-		eng, err := plan.Engine(p)
-		if err != nil {
-			t.Fatal(err)
-		}
-		r, err := route.SolveWith(context.Background(), s, p, eng)
+		r, err := route.Solve(context.Background(), s, p) // with a new engine
 		if err != nil {
 			t.Fatal(err)
 		}
