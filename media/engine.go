@@ -7,6 +7,7 @@ import (
 	"slices"
 	"sort"
 	"strings"
+	"sync"
 
 	lru "github.com/hashicorp/golang-lru/v2"
 
@@ -62,6 +63,8 @@ type Engine struct {
 	maxMemo *lru.Cache[maxKey, float64]
 	// chosen caches Choose by chooseKey, bounded so a long sweep's memory stays flat.
 	chosen *lru.Cache[chooseKey, Choice]
+	// reachID digests what MaxChannelM depends on besides its arguments (ReachMemo).
+	reachID [32]byte
 }
 
 // chooseCacheSize bounds the choices an engine remembers: about a hundred scenarios' legs
@@ -139,24 +142,27 @@ func NewEngine(c *Catalog, r *Rules, p *PriceBook, opt EngineOptions) (*Engine, 
 	for _, a := range c.Applications {
 		for _, m := range c.Media {
 			if rs := c.ReachesOn(a, m.ID); len(rs) > 0 {
-				e.reaches[reachKey{a, m.ID}] = rs
+				e.reaches[reachKey{a, m}] = rs
 			}
 		}
 	}
 	// lru.New errs only on a size <= 0.
 	e.chosen, _ = lru.New[chooseKey, Choice](chooseCacheSize)
 	e.maxMemo, _ = lru.New[maxKey, float64](4 * chooseCacheSize)
+	e.reachID = reachID(e)
 	return e, nil
 }
 
+// reachKey is an application and a medium of the engine's catalog, by pointer: cheaper to
+// hash than the medium's ID, and asked for on every candidate.
 type reachKey struct {
-	a      *Application
-	medium string
+	a *Application
+	m *Medium
 }
 
-// reachesOn is Catalog.ReachesOn(a, medium), computed once.
-func (e *Engine) reachesOn(a *Application, medium string) []Reach {
-	return e.reaches[reachKey{a, medium}]
+// reachesOn is Catalog.ReachesOn(a, m.ID), computed once.
+func (e *Engine) reachesOn(a *Application, m *Medium) []Reach {
+	return e.reaches[reachKey{a, m}]
 }
 
 // checkRule reports rule references the catalog cannot satisfy, and collects breakpoints.
@@ -284,8 +290,11 @@ func (e *Engine) variants(l Link, a *Application, m *Medium, k *Construction) []
 	if in := e.transitionInside(l, m, k, strandsFor(l, a, m)); in != nil {
 		return []*Construction{nil, in}
 	}
-	return []*Construction{nil}
+	return asItIs
 }
+
+// asItIs is the variants of a construction without a transition; read only.
+var asItIs = []*Construction{nil}
 
 // blend is construction k with its attenuation mixed with inside's by length: insideM of
 // lengthM metres in the inside construction, the rest in k. Only the attenuation is used.
@@ -353,14 +362,15 @@ func (e *Engine) evaluate(c *candidate, l Link, at lengths, mi, ai, ki int, insi
 	m, a := e.cat.Media[mi], e.cat.Applications[ai]
 	k := m.Constructions[ki]
 	channel := at.channelM
+	prefer := c.prefer[:0] // a candidate evaluated again (feasibleAt's scratch) keeps its array
 	*c = candidate{m: m, a: a, k: k, mi: mi, ai: ai, ki: ki, failed: -1, strands: strandsFor(l, a, m),
-		lossK: k, splices: l.Splices + e.termSplices(m)}
+		lossK: k, splices: l.Splices + e.termSplices(m), prefer: prefer}
 	if inside != nil {
 		c.inside, c.splices = inside, c.splices+2
 		c.lossK = blend(k, inside, l.RiserM, channel)
 	}
 	c.repair = e.repairSplices(m, outsideM(l, at))
-	c.b = e.budgetFor(c.lossK, a, e.reachesOn(a, m.ID), channel, l.ConnectorPairs, c.splices, e.requiredMarginDB(m, c.repair))
+	c.b = e.budgetFor(c.lossK, a, e.reachesOn(a, m), channel, l.ConnectorPairs, c.splices, e.requiredMarginDB(m, c.repair))
 	c.r, c.losses = c.b.r, c.b.losses
 	f := &c.f
 	f[fChannelM].num = channel
@@ -459,7 +469,7 @@ func (e *Engine) future(l Link, c *candidate) {
 	var bestR Reach
 	bestMargin, bestScore := 0.0, -1
 	for _, a := range e.cat.Applications {
-		rs := e.reachesOn(a, c.m.ID)
+		rs := e.reachesOn(a, c.m)
 		if len(rs) == 0 || a.RateGbps != l.FutureRateGbps {
 			continue
 		}
@@ -623,7 +633,7 @@ func (e *Engine) choose(l Link) Choice {
 			continue
 		}
 		for mi, m := range e.cat.Media {
-			if len(e.reachesOn(a, m.ID)) == 0 {
+			if len(e.reachesOn(a, m)) == 0 {
 				continue
 			}
 			for ki, k := range m.Constructions {
@@ -634,8 +644,15 @@ func (e *Engine) choose(l Link) Choice {
 		}
 	}
 	at := linkLengths(l)
-	// The candidates are large (every fact of the rule language): one allocation for all.
-	pool := make([]candidate, len(specs))
+	// The candidates are large (every fact of the rule language): one slice for all, taken
+	// from those earlier choices left. Nothing of a candidate outlives choose but what the
+	// Choice copies (its losses are allocated per evaluation), so the slice goes back after.
+	held := candidates.Get().(*[]candidate)
+	pool := slices.Grow((*held)[:0], len(specs))[:len(specs)]
+	defer func() {
+		*held = pool[:0]
+		candidates.Put(held)
+	}()
 	all := make([]*candidate, len(specs))
 	var ok []*candidate
 	for i, s := range specs {
@@ -688,6 +705,9 @@ func (e *Engine) choose(l Link) Choice {
 	ch.Reason, ch.Code = e.reason(l, win, ok)
 	return ch
 }
+
+// candidates holds the candidate slices of finished choices, for the next (choose).
+var candidates = sync.Pool{New: func() any { return new([]candidate) }}
 
 // better ranks feasible candidates: prefer rules, cost, margin, catalog order.
 func better(a, b *candidate) bool {
@@ -816,19 +836,18 @@ func (e *Engine) reason(l Link, win *candidate, ok []*candidate) (string, string
 }
 
 // feasibleAt reports whether medium mi carries l at channelM metres with some application
-// and construction.
-func (e *Engine) feasibleAt(l Link, mi int, channelM float64) bool {
+// and construction; c is scratch space, its contents of no meaning after.
+func (e *Engine) feasibleAt(c *candidate, l Link, mi int, channelM float64) bool {
 	at := trialLengths(l, channelM)
 	m := e.cat.Media[mi]
-	var c candidate
 	for ai, a := range e.cat.Applications {
-		rs := e.reachesOn(a, m.ID)
+		rs := e.reachesOn(a, m)
 		if len(rs) == 0 || a.RateGbps != l.RateGbps || channelM > longestRange(rs) {
 			continue
 		}
 		for ki, k := range m.Constructions {
 			for _, inside := range e.variants(l, a, m, k) {
-				if e.evaluate(&c, l, at, mi, ai, ki, inside); c.failed < 0 {
+				if e.evaluate(c, l, at, mi, ai, ki, inside); c.failed < 0 {
 					return true
 				}
 			}
@@ -847,9 +866,7 @@ func (e *Engine) feasibleAt(l Link, mi int, channelM float64) bool {
 // the rate on the medium. It returns 0 when the medium never carries the rate for such a link,
 // or is unknown.
 func (e *Engine) MaxChannelM(medium string, rateGbps, futureRateGbps float64, l Link) float64 {
-	k := maxKey{medium: medium, rate: rateGbps, future: futureRateGbps, riser: l.RiserM, slack: l.SlackM,
-		emi: l.MaxEMI, outdoor: l.Outdoor, plenum: l.Plenum, types: strings.Join(l.PathwayTypes, ","), pairs: l.ConnectorPairs,
-		splices: l.Splices, strands: l.Strands, copper: l.CopperCables, insideA: l.InsideAM, insideB: l.InsideBM}
+	k := maxKeyOf(medium, rateGbps, futureRateGbps, l)
 	if v, ok := e.maxMemo.Get(k); ok {
 		return v
 	}
@@ -858,7 +875,14 @@ func (e *Engine) MaxChannelM(medium string, rateGbps, futureRateGbps float64, l 
 	return v
 }
 
-// maxKey is what MaxChannelM's answer depends on.
+// maxKeyOf is MaxChannelM's question as a key.
+func maxKeyOf(medium string, rateGbps, futureRateGbps float64, l Link) maxKey {
+	return maxKey{medium: medium, rate: rateGbps, future: futureRateGbps, riser: l.RiserM, slack: l.SlackM,
+		emi: l.MaxEMI, outdoor: l.Outdoor, plenum: l.Plenum, types: strings.Join(l.PathwayTypes, ","), pairs: l.ConnectorPairs,
+		splices: l.Splices, strands: l.Strands, copper: l.CopperCables, insideA: l.InsideAM, insideB: l.InsideBM}
+}
+
+// maxKey is what MaxChannelM's answer depends on (with the engine).
 type maxKey struct {
 	medium                     string
 	rate, future, riser, slack float64
@@ -887,7 +911,7 @@ func (e *Engine) maxChannelM(medium string, rateGbps, futureRateGbps float64, l 
 	// the applications' ranges, and the lengths at which a loss budget closes exactly.
 	points := append([]float64(nil), e.breakpoints...)
 	for _, a := range e.cat.Applications {
-		rs := e.reachesOn(a, m.ID)
+		rs := e.reachesOn(a, m)
 		if len(rs) == 0 || (a.RateGbps != rateGbps && a.RateGbps != futureRateGbps) {
 			continue
 		}
@@ -898,14 +922,15 @@ func (e *Engine) maxChannelM(medium string, rateGbps, futureRateGbps float64, l 
 	}
 	sort.Float64s(points)
 	points = slices.Compact(points)
+	var c candidate // one for every trial: a candidate is large
 	for i := len(points) - 1; i >= 0; i-- {
 		x := points[i]
 		if x <= 0 || (i+1 < len(points) && points[i+1] == x) {
 			continue
 		}
 		for _, y := range []float64{x, x * (1 - 1e-9)} {
-			if e.feasibleAt(l, mi, y) {
-				return e.refine(l, mi, y, points[i+1:])
+			if e.feasibleAt(&c, l, mi, y) {
+				return e.refine(&c, l, mi, y, points[i+1:])
 			}
 		}
 	}
@@ -914,17 +939,17 @@ func (e *Engine) maxChannelM(medium string, rateGbps, futureRateGbps float64, l 
 
 // refine extends a feasible length lo towards the next breakpoint above it, in case a rule
 // compares facts in a way the breakpoints do not capture; it bisects to 1 mm.
-func (e *Engine) refine(l Link, mi int, lo float64, above []float64) float64 {
+func (e *Engine) refine(c *candidate, l Link, mi int, lo float64, above []float64) float64 {
 	if len(above) == 0 {
 		return lo
 	}
 	hi := above[0]
-	if !e.feasibleAt(l, mi, (lo+hi)/2) {
+	if !e.feasibleAt(c, l, mi, (lo+hi)/2) {
 		return lo
 	}
 	for hi-lo > 0.001 {
 		mid := (lo + hi) / 2
-		if e.feasibleAt(l, mi, mid) {
+		if e.feasibleAt(c, l, mi, mid) {
 			lo = mid
 		} else {
 			hi = mid
@@ -1010,7 +1035,7 @@ func (e *Engine) CableFor(medium string, rateGbps float64, l Link) int64 {
 search:
 	for _, k := range ks {
 		for ai, a := range e.cat.Applications {
-			if len(e.reachesOn(a, m.ID)) == 0 || a.RateGbps != rateGbps {
+			if len(e.reachesOn(a, m)) == 0 || a.RateGbps != rateGbps {
 				continue
 			}
 			if e.evaluate(&c, l, at, mi, ai, k.ki, nil); c.failed < 0 {
@@ -1045,7 +1070,7 @@ func (e *Engine) FixedCentsFor(medium string, rateGbps float64, l Link) int64 {
 	term, _ := e.prices.Price(PriceKey{Item: PriceTermination, Medium: m.ID})
 	best := int64(-1)
 	for _, a := range e.cat.Applications {
-		if len(e.reachesOn(a, m.ID)) == 0 || a.RateGbps != rateGbps {
+		if len(e.reachesOn(a, m)) == 0 || a.RateGbps != rateGbps {
 			continue
 		}
 		trx, _ := e.prices.Price(PriceKey{Item: PriceTransceiver, Name: a.Transceiver})

@@ -461,10 +461,10 @@ func TestMaxChannelM(t *testing.T) {
 				// Choose agrees at the answer and rejects the medium just past it.
 				l := tc.link
 				l.RouteM, l.RateGbps, l.FutureRateGbps = got, tc.rate, tc.future
-				if !e.feasibleAt(l, indexOf(e.Media(), tc.medium), got) {
+				if !e.feasibleAt(new(candidate), l, indexOf(e.Media(), tc.medium), got) {
 					t.Errorf("%s: infeasible at its own maximum %.6f m", tc.name, got)
 				}
-				if e.feasibleAt(l, indexOf(e.Media(), tc.medium), got+0.01) {
+				if e.feasibleAt(new(candidate), l, indexOf(e.Media(), tc.medium), got+0.01) {
 					t.Errorf("%s: still feasible past its maximum %.6f m", tc.name, got)
 				}
 			}

@@ -239,7 +239,7 @@ func TestChannelInvariants(t *testing.T) {
 			feasible := func(mi int) bool {
 				var c candidate
 				for ki := range e.cat.Media[mi].Constructions {
-					if len(e.reachesOn(a, e.cat.Media[mi].ID)) == 0 {
+					if len(e.reachesOn(a, e.cat.Media[mi])) == 0 {
 						return false
 					}
 					if e.evaluate(&c, l, at, mi, ai, ki, nil); c.failed < 0 {

@@ -8,7 +8,9 @@ import (
 	"spanwright/route/internal/testsite"
 	"spanwright/route/plan"
 	"spanwright/route/site"
+	"syscall"
 	"testing"
+	"time"
 )
 
 func BenchmarkSolveDemo(b *testing.B) {
@@ -72,19 +74,34 @@ func BenchmarkPlan(b *testing.B) {
 // plan, not the memory of an earlier one.
 func solveFresh(b *testing.B, s *site.Site, p *plan.Plan) {
 	b.Helper()
-	for i := 0; i < b.N; i++ {
-		b.StopTimer()
+	solveEach(b, s, p, func() {
 		s.Solved.Purge()
 		s.Pulls.Purge()
+		s.Reaches.Purge()
+	})
+}
+
+// solveEach plans p on the site b.N times, each time with a new engine and after forget has
+// cleared what the site should not remember, both outside the timer, and returns the CPU time
+// (user and system, of the process) the plans took.
+func solveEach(b *testing.B, s *site.Site, p *plan.Plan, forget func()) time.Duration {
+	b.Helper()
+	var cpu time.Duration
+	for i := 0; i < b.N; i++ {
+		b.StopTimer()
+		forget()
 		eng, err := plan.Engine(p)
 		if err != nil {
 			b.Fatal(err)
 		}
 		b.StartTimer()
+		before := cpuTime(b)
 		if _, err := route.SolveWith(context.Background(), s, p, eng); err != nil {
 			b.Fatal(err)
 		}
+		cpu += cpuTime(b) - before
 	}
+	return cpu
 }
 
 // BenchmarkPlanCampus plans the generated campuses the command benchmarks time
@@ -130,4 +147,44 @@ func b2i(b bool) int {
 		return 1
 	}
 	return 0
+}
+
+// BenchmarkAroundOptimizer times what a plan spends outside the optimizer and the files on the
+// generated 1,000-building campus: stating the routing problem, the legs and their media, and
+// the estimate. The optimizer's solution is remembered from a first solve (the site's Solved
+// cache, by the problem's fingerprint) and each iteration gets a new engine. "plan" forgets
+// what the site remembers besides (pull plans, media reaches), as a fresh plan has; "scenario"
+// keeps it, as a sweep's next scenario on the same routes with another price book does. Run it
+// on one core: go test -run '^$' -bench AroundOptimizer -benchmem -cpu 1 -count 3 ./route/
+func BenchmarkAroundOptimizer(b *testing.B) {
+	s, p := testplan.CampusSite(b, 1000)
+	if _, err := route.Solve(context.Background(), s, p); err != nil {
+		b.Fatal(err)
+	}
+	for _, fresh := range []bool{true, false} {
+		name := "scenario"
+		if fresh {
+			name = "plan"
+		}
+		b.Run(name, func(b *testing.B) {
+			b.ReportAllocs()
+			// The process's CPU time, which a loaded machine stretches less than the wall time.
+			cpu := solveEach(b, s, p, func() {
+				if fresh {
+					s.Pulls.Purge()
+					s.Reaches.Purge()
+				}
+			})
+			b.ReportMetric(cpu.Seconds()/float64(b.N), "cpu-s/op")
+		})
+	}
+}
+
+// cpuTime is the CPU time (user and system) the process has used so far.
+func cpuTime(b *testing.B) time.Duration {
+	var ru syscall.Rusage
+	if err := syscall.Getrusage(syscall.RUSAGE_SELF, &ru); err != nil {
+		b.Fatal(err)
+	}
+	return time.Duration(ru.Utime.Nano() + ru.Stime.Nano())
 }

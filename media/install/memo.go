@@ -7,35 +7,37 @@ import (
 	lru "github.com/hashicorp/golang-lru/v2"
 )
 
-// Memo remembers the answers of Sections, for callers that plan the same runs again and again
-// (every scenario of a sweep pulls the same cables through the same ducts). Sections is a pure
-// function of its arguments, so a remembered plan equals a fresh one. It keeps at most the
-// size given to NewMemo, dropping the least recently used. It is safe for concurrent use;
-// the Plans it returns are shared and must not be modified.
+// Memo remembers the plans of the stretches of duct between given pull points that Sections
+// splits a run into, for callers that plan the same ducts again and again: the legs of one
+// campus share their trunk stretches, and every scenario of a sweep pulls the same cables
+// through the same ducts. A stretch's plan is a pure function of its steps and the spec, so a
+// plan made of remembered stretches equals a fresh one. It keeps at most the size given to
+// NewMemo stretches, dropping the least recently used. It is safe for concurrent use; the
+// Steps and PerStepN slices of the Sections it returns are shared and must not be modified.
 type Memo struct {
-	plans *lru.Cache[string, memoEntry]
+	plans *lru.Cache[string, []stretchSection]
 }
 
-type memoEntry struct {
-	plan Plan
-	err  error
-}
-
-// NewMemo returns a Memo that keeps at most size plans (at least one).
+// NewMemo returns a Memo that keeps at most size stretches' plans (at least one).
 func NewMemo(size int) *Memo {
-	c, _ := lru.New[string, memoEntry](max(size, 1)) // errs only on a size <= 0
+	c, _ := lru.New[string, []stretchSection](max(size, 1)) // errs only on a size <= 0
 	return &Memo{plans: c}
 }
 
-// Sections is Sections(steps, pullPoints, spec), remembered.
+// Sections is Sections(steps, pullPoints, spec), its stretches remembered.
 func (m *Memo) Sections(steps []Step, pullPoints []int, spec PullSpec) (Plan, error) {
-	k := sectionsKey(steps, pullPoints, spec)
-	if e, ok := m.plans.Get(k); ok {
-		return e.plan, e.err
+	return sections(steps, pullPoints, spec, m)
+}
+
+// stretch is spec.stretch(steps), remembered.
+func (m *Memo) stretch(steps []Step, spec PullSpec) []stretchSection {
+	k := sectionsKey(steps, nil, spec)
+	if v, ok := m.plans.Get(k); ok {
+		return v
 	}
-	p, err := Sections(steps, pullPoints, spec)
-	m.plans.Add(k, memoEntry{p, err})
-	return p, err
+	v := spec.stretch(steps)
+	m.plans.Add(k, v)
+	return v
 }
 
 // sectionsKey encodes every argument of Sections: floats by their bits, strings and slices

@@ -52,3 +52,39 @@ func TestMemo(t *testing.T) {
 		}
 	}
 }
+
+// TestMemoSharedStretch: two runs that share a stretch between pull points at different
+// places along them (after a straight of another length, its straights cut into parts and
+// pull points added) plan alike from one Memo and from Sections, StartM and AddedAtM to the
+// bit: a remembered stretch is placed along each run with the run's own arithmetic.
+func TestMemoSharedStretch(t *testing.T) {
+	spec := PullSpec{WNPerM: 1.5, Mu: 0.5, MaxTensionN: 2700, MaxBendDeg: 180, MaxLengthM: 90}
+	shared := []Step{{Kind: KindStraight, LengthM: 212.3}, {Kind: KindBend, AngleDeg: 45, RadiusM: 0.6},
+		{Kind: KindStraight, LengthM: 61.7}, {Kind: KindBend, AngleDeg: 90, RadiusM: 0.6}, {Kind: KindStraight, LengthM: 133.1}}
+	runs := [][]Step{
+		append([]Step{{Kind: KindStraight, LengthM: 17.35}}, shared...),
+		append([]Step{{Kind: KindStraight, LengthM: 0.1 + 0.2}, {Kind: KindStraight, LengthM: 44.4}}, shared...),
+		shared,
+	}
+	m := NewMemo(16)
+	added := 0
+	for i, run := range runs {
+		points := []int{len(run) - len(shared)}
+		want, err := Sections(run, points, spec)
+		if err != nil {
+			t.Fatal(err)
+		}
+		got, err := m.Sections(run, points, spec)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !reflect.DeepEqual(got, want) {
+			t.Errorf("run %d: from the memo %+v, want %+v", i, got, want)
+		}
+		added += want.AddedPullPoints
+	}
+	if added == 0 || m.plans.Len() != 3 {
+		// the shared stretch once, the two lead-ins (the third run has none before its pull point)
+		t.Errorf("%d pull points added, %d stretches remembered: the test does not test the sharing", added, m.plans.Len())
+	}
+}

@@ -86,6 +86,15 @@ type Plan struct {
 // step, pull point and spec field, and never panics. Time O(n²·m) per stretch of n steps and
 // cuts in the worst case (inclined straights), O(n·m) with m steps per section on level runs.
 func Sections(steps []Step, pullPoints []int, spec PullSpec) (Plan, error) {
+	return sections(steps, pullPoints, spec, nil)
+}
+
+// sections is Sections, with the plans of the stretches between given pull points taken from
+// m when it remembers them (nil m: none). A stretch's plan depends only on its steps and the
+// spec, so runs that share a stretch (the legs of a campus share their trunk ducts) plan it
+// once; only where the stretch lies along the run, its sections' Span and StartM, is the run's
+// own, and it is set here with the arithmetic Sections has always used.
+func sections(steps []Step, pullPoints []int, spec PullSpec, m *Memo) (Plan, error) {
 	if err := spec.validate(steps, pullPoints); err != nil {
 		return Plan{}, err
 	}
@@ -101,15 +110,25 @@ func Sections(steps []Step, pullPoints []int, spec PullSpec) (Plan, error) {
 	bounds = append(bounds, len(steps))
 
 	plan := Plan{WithinRating: true}
-	startM := 0.0
+	startM := 0.0 // where the stretch's next step starts along the run
 	for span := 0; span+1 < len(bounds) && len(steps) > 0; span++ {
-		var pcs []piece
-		for i := bounds[span]; i < bounds[span+1]; i++ {
-			pcs = append(pcs, spec.cut(steps[i], i, startM)...)
-			startM += steps[i].LengthM
+		stretch := steps[bounds[span]:bounds[span+1]]
+		var planned []stretchSection
+		if m != nil {
+			planned = m.stretch(stretch, spec)
+		} else {
+			planned = spec.stretch(stretch)
 		}
-		for k, sec := range spec.partition(pcs) {
-			sec.Span = span
+		origin := 0
+		for k, ss := range planned {
+			for ; origin < ss.origin; origin++ {
+				startM += stretch[origin].LengthM
+			}
+			sec := ss.sec
+			sec.Span, sec.StartM = span, startM
+			if ss.parts > 1 {
+				sec.StartM = startM + float64(ss.part)*(stretch[origin].LengthM/float64(ss.parts)) // as cut places its parts
+			}
 			if k > 0 {
 				plan.AddedPullPoints++
 				plan.AddedAtM = append(plan.AddedAtM, sec.StartM)
@@ -117,8 +136,35 @@ func Sections(steps []Step, pullPoints []int, spec PullSpec) (Plan, error) {
 			plan.WithinRating = plan.WithinRating && sec.WithinRating
 			plan.Sections = append(plan.Sections, sec)
 		}
+		for ; origin < len(stretch); origin++ {
+			startM += stretch[origin].LengthM
+		}
 	}
 	return plan, nil
+}
+
+// stretchSection is a section of a stretch between given pull points, planned on its own:
+// sec without its Span and StartM, and the piece it starts with (step origin of the stretch,
+// part part of parts), from which sections places it along the run.
+type stretchSection struct {
+	sec                 Section
+	origin, part, parts int
+}
+
+// stretch plans one stretch between given pull points (validated, MaxBendDeg set): its
+// straights cut as cut does and its sections chosen by partition.
+func (sp PullSpec) stretch(steps []Step) []stretchSection {
+	var pcs []piece
+	for i, s := range steps {
+		pcs = append(pcs, sp.cut(s, i, 0)...)
+	}
+	secs, first := sp.partition(pcs)
+	out := make([]stretchSection, len(secs))
+	for k, sec := range secs {
+		p := pcs[first[k]]
+		out[k] = stretchSection{sec: sec, origin: p.origin, part: p.part, parts: p.parts}
+	}
+	return out
 }
 
 func (sp PullSpec) validate(steps []Step, pullPoints []int) error {
@@ -293,8 +339,8 @@ func (a score) less(b score) bool {
 }
 
 // partition splits one stretch between given pull points into sections, following the policy
-// documented on Sections.
-func (sp PullSpec) partition(pcs []piece) []Section {
+// documented on Sections, and says where each starts: the index in pcs of its first piece.
+func (sp PullSpec) partition(pcs []piece) ([]Section, []int) {
 	n := len(pcs)
 	level := true
 	for _, p := range pcs {
@@ -334,11 +380,13 @@ func (sp PullSpec) partition(pcs []piece) []Section {
 	}
 	cuts = append(cuts, 0)
 	secs := make([]Section, 0, len(cuts)-1)
+	first := make([]int, 0, len(cuts)-1)
 	for k := len(cuts) - 1; k > 0; k-- {
 		sec := sp.evaluate(pcs[cuts[k]:cuts[k-1]])
 		sec.StartAdded = cuts[k] != 0
 		sec.EndAdded = cuts[k-1] != n
 		secs = append(secs, sec)
+		first = append(first, cuts[k])
 	}
-	return secs
+	return secs, first
 }

@@ -210,12 +210,20 @@ func Build(ctx context.Context, in Input) (*Estimate, error) {
 			r.runHH[id] = append(r.runHH[id], h.AtM)
 		}
 	}
-	for i := range r.Legs {
-		if err := ctxio.StopEvery(ctx, i); err != nil {
-			return nil, err
-		}
+	// Each leg's pulls are its own: planned side by side, assembled in leg order.
+	pulls := make([]legPulls, len(r.Legs))
+	if err := ctxio.Each(ctx, len(r.Legs), func(i int) {
 		if r.Legs[i].Feasible {
-			r.pullPlan(i, added)
+			pulls[i] = r.pullPlan(i)
+		}
+	}); err != nil {
+		return nil, err
+	}
+	for _, p := range pulls {
+		e.Pulls = append(e.Pulls, p.sections...)
+		e.Warnings = append(e.Warnings, p.warnings...)
+		for _, k := range p.added {
+			added[k] = true
 		}
 	}
 	e.AddedPullPoints = len(added)
@@ -243,10 +251,18 @@ func Build(ctx context.Context, in Input) (*Estimate, error) {
 	return e, nil
 }
 
-// pullPlan plans the pulls of leg i, appending its sections and warnings to the estimate
-// and its intermediate pull points to added, keyed by place.
-func (r *run) pullPlan(i int, added map[string]bool) {
-	s, d, e := r.Site, r.Plan.Design, r.Estimate
+// legPulls is what pullPlan finds for one leg.
+type legPulls struct {
+	sections []PullSection
+	warnings []string
+	added    []string // the intermediate pull points it adds, keyed by place
+}
+
+// pullPlan plans the pulls of leg i: its sections, its warnings and the intermediate pull
+// points it adds. It changes nothing of r, so legs may be planned side by side.
+func (r *run) pullPlan(i int) legPulls {
+	s, d := r.Site, r.Plan.Design
+	var e legPulls
 	leg := &r.Legs[i]
 	med := r.Engine.Catalog().Medium(leg.Medium)
 	k := med.Construction(leg.Construction)
@@ -330,7 +346,7 @@ func (r *run) pullPlan(i int, added map[string]bool) {
 				hh = append(hh, at)
 			}
 			slices.Sort(hh)
-			segs := sp.SegmentsM()
+			segs := s.SegmentsM(sp)
 			travelM := 0.0
 			for q := range segs {
 				qq, bq := q, q-1
@@ -368,7 +384,7 @@ func (r *run) pullPlan(i int, added map[string]bool) {
 		}
 		plan, err := s.Pulls.Sections(steps, points, spec)
 		if err != nil {
-			e.Warnings = append(e.Warnings, fmt.Sprintf("%s %s: no pulling plan: %v", leg.Link.ID, leg.Name, err))
+			e.warnings = append(e.warnings, fmt.Sprintf("%s %s: no pulling plan: %v", leg.Link.ID, leg.Name, err))
 			continue
 		}
 		for _, sec := range plan.Sections {
@@ -382,10 +398,10 @@ func (r *run) pullPlan(i int, added map[string]bool) {
 			ps.From, fromKey = name(start)
 			ps.To, toKey = name(end)
 			if sec.StartAdded {
-				added[fromKey] = true
+				e.added = append(e.added, fromKey)
 			}
 			if sec.EndAdded {
-				added[toKey] = true
+				e.added = append(e.added, toKey)
 			}
 			ps.FeedAt, ps.OtherN = ps.From, sec.Reverse.MaxTensionN
 			if sec.Best == install.Reverse {
@@ -402,15 +418,16 @@ func (r *run) pullPlan(i int, added map[string]bool) {
 				}
 			}
 			if !sec.WithinRating {
-				e.Warnings = append(e.Warnings, fmt.Sprintf("%s %s: pull %d from %s to %s: %s; reroute or add a structure",
+				e.warnings = append(e.warnings, fmt.Sprintf("%s %s: pull %d from %s to %s: %s; reroute or add a structure",
 					leg.Link.ID, leg.Name, seq, ps.From, ps.To, sec.Reason))
 			}
-			e.Pulls = append(e.Pulls, ps)
+			e.sections = append(e.sections, ps)
 		}
 	}
 	if tight != "" {
-		e.Warnings = append(e.Warnings, tight)
+		e.warnings = append(e.warnings, tight)
 	}
+	return e
 }
 
 // ductFill checks every duct of every span of limited capacity that carries cable, with
@@ -548,6 +565,22 @@ func (r *run) connectivity() {
 	p := r.Engine.PriceBook()
 	sizes, cents := counts(p, media.PriceAdapterPanel, media.PriceEnclosure, media.PriceCopperPanel)
 	panels, encl, copper := sizes[media.PriceAdapterPanel], sizes[media.PriceEnclosure], sizes[media.PriceCopperPanel]
+	// The covers asked for, by item and port count: most cable ends terminate the same few
+	// strand counts and most buildings hold the same few ports. Read only; kept maps are cloned.
+	type coverKey struct {
+		item string
+		n    int
+	}
+	covers := map[coverKey]map[int]int{}
+	coverOf := func(item string, sizes []int, n int) map[int]int {
+		k := coverKey{item, n}
+		v, ok := covers[k]
+		if !ok {
+			v = cover(sizes, cents[item], n)
+			covers[k] = v
+		}
+		return v
+	}
 	byB := map[string]*Connectivity{}
 	get := func(b string) *Connectivity {
 		c, ok := byB[b]
@@ -569,7 +602,7 @@ func (r *run) connectivity() {
 				continue
 			}
 			c.FibreStrands += l.Cable.Terminated
-			for size, n := range cover(panels, cents[media.PriceAdapterPanel], l.Cable.Terminated) {
+			for size, n := range coverOf(media.PriceAdapterPanel, panels, l.Cable.Terminated) {
 				c.AdapterPanels[size] += n
 			}
 			c.SpliceTrays += p.TraysFor(l.Cable.Terminated)
@@ -589,8 +622,8 @@ func (r *run) connectivity() {
 		if c.FibreStrands > 0 && len(panels) == 0 {
 			ports = c.FibreStrands
 		}
-		c.Enclosures = cover(encl, cents[media.PriceEnclosure], ports)
-		c.CopperPanels = cover(copper, cents[media.PriceCopperPanel], c.CopperCables)
+		c.Enclosures = maps.Clone(coverOf(media.PriceEnclosure, encl, ports))
+		c.CopperPanels = maps.Clone(coverOf(media.PriceCopperPanel, copper, c.CopperCables))
 		r.Estimate.Buildings = append(r.Estimate.Buildings, *c)
 	}
 }

@@ -52,6 +52,7 @@ type Model struct {
 	design      plan.Design
 	allowedMemo map[allowedKey]bool
 	cableMemo   map[cableKey]int64
+	bidMemo     map[media.BidBases][]media.Quantity // items.BidPer by bases, for the model's book
 }
 
 // Edge flags. flagDuct marks a duct edge, so that a cable too large for the design's
@@ -112,13 +113,13 @@ type allowedKey struct {
 // allowed reports whether the rules let medium carry a link of rate (and future rate) and
 // strands on spans of class c, at some length, with no risers or slack: the rules that depend
 // on the whole route or its ends are the media choice's to apply, on the route's own facts.
-func (m *Model) allowed(medium string, rate, future float64, strands int, c spanClass) bool {
+func (m *Model) allowed(s *site.Site, medium string, rate, future float64, strands int, c spanClass) bool {
 	k := allowedKey{medium, rate, future, strands, c}
 	if v, ok := m.allowedMemo[k]; ok {
 		return v
 	}
 	l := c.facts(media.Link{ConnectorPairs: ConnectorPairs, Strands: strands})
-	v := m.eng.MaxChannelM(medium, rate, future, l) > 0
+	v := s.Reaches.MaxChannelM(m.eng, medium, rate, future, l) > 0
 	m.allowedMemo[k] = v
 	return v
 }
@@ -170,7 +171,8 @@ func (m *Model) whyNot(medium string, facts media.Link, c spanClass) string {
 // plan need; a missing one is an error naming its key.
 func NewModel(eng *media.Engine, d plan.Design) (*Model, error) {
 	p := eng.PriceBook()
-	m := &Model{eng: eng, prices: p, design: d, allowedMemo: map[allowedKey]bool{}, cableMemo: map[cableKey]int64{}}
+	m := &Model{eng: eng, prices: p, design: d, allowedMemo: map[allowedKey]bool{}, cableMemo: map[cableKey]int64{},
+		bidMemo: map[media.BidBases][]media.Quantity{}}
 	var needs []media.PriceKey
 	for _, t := range items.PathwayTypes {
 		needs = append(needs, items.KeysOf(items.AlongSpan(d, t, 1))...)
@@ -238,7 +240,7 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 			work := items.NewWork(sp, items.MethodOf(m.prices, sp), 1)
 			if d.AllowNewTrench && m.prices.Check(items.KeysOf(append(work, items.AddedDuct(1)))) == nil && m.perM(items.AddedDuct(1)) > 0 {
 				e.AddDuctPerMCents = m.perM(items.AddedDuct(1))
-				e.AddTrenchPerMCents = m.perM(append(work, items.BidPer(m.prices, media.BidBases{NewBuriedM: 1})...)...)
+				e.AddTrenchPerMCents = m.perM(append(work, m.bidItems(media.BidBases{NewBuriedM: 1})...)...)
 			}
 		}
 		p.Edges[i] = e
@@ -337,7 +339,7 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link) (optimize.Demand,
 	pull, entered := crewHalves(s, src.Junction, dst.Junction) // "" at an end with several entrances: none
 	endItems = append(endItems, items.AtJunctions(m.prices, 1+pull, entered)...)
 	endItems = append(endItems, items.Crew(m.prices, media.CrewCableEndPrep, 2)...)
-	endItems = append(endItems, items.BidPer(m.prices, media.BidBases{CableEnds: 2, Legs: 1})...)
+	endItems = append(endItems, m.bidItems(media.BidBases{CableEnds: 2, Legs: 1})...)
 	endBid := m.bidPer(media.BidBases{Structures: 1}, entered)
 	// Inside each end's building: its riser, its service coil and its entrance loop (the
 	// route's own spans inside it are added per leg, fillLeg) — NFPA 70 770.48 counts
@@ -361,17 +363,17 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link) (optimize.Demand,
 	}
 	for _, med := range m.eng.Media() {
 		mm := m.eng.Catalog().Medium(med)
-		if lateral > 0 && !m.allowed(med, rate, future, strands, lateralClass) {
+		if lateral > 0 && !m.allowed(s, med, rate, future, strands, lateralClass) {
 			info.excluded = append(info.excluded, fmt.Sprintf("%s: the route leaves a building over a lateral: %s", med, m.whyNot(med, facts, lateralClass)))
 			continue
 		}
 		var exclude uint64
 		for _, c := range lay.classes {
-			if !m.allowed(med, rate, future, strands, c) {
+			if !m.allowed(s, med, rate, future, strands, c) {
 				exclude |= lay.classBit[c]
 			}
 		}
-		maxCh := m.eng.MaxChannelM(med, rate, future, facts)
+		maxCh := s.Reaches.MaxChannelM(m.eng, med, rate, future, facts) // shared by a sweep's price books
 		maxRoute := maxCh - riser - slack - lateral
 		perM := m.cableFor(med, rate, facts, coils+2*endLoops)
 		fixed := m.eng.FixedCentsFor(med, rate, facts)
@@ -472,11 +474,23 @@ func crewHalves(s *site.Site, js ...string) (pull, entered float64) {
 // amount units.
 func (m *Model) bidPer(bases media.BidBases, amount float64) int64 {
 	var c int64
-	for _, q := range items.BidPer(m.prices, bases) {
+	for _, q := range m.bidItems(bases) {
 		q.Amount *= amount
 		c += m.prices.Cents(q)
 	}
 	return c
+}
+
+// bidItems is items.BidPer(m.prices, bases), remembered: the problem asks it for every span
+// and link with a few fixed bases. The slice is shared: callers append to it only after
+// copying (append to a nil or full slice copies) and never change its elements.
+func (m *Model) bidItems(bases media.BidBases) []media.Quantity {
+	qs, ok := m.bidMemo[bases]
+	if !ok {
+		qs = slices.Clip(items.BidPer(m.prices, bases))
+		m.bidMemo[bases] = qs
+	}
+	return qs
 }
 
 // entranceCents is what using a building entrance costs whatever the cables in it: its entry

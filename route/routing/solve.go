@@ -122,11 +122,16 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 	for _, in := range sol.Infeasible {
 		infeasible[in.Demand] = lay.explain(in)
 	}
-	for i := range links {
-		if err := ctxio.StopEvery(ctx, i); err != nil {
-			return nil, err
-		}
-		r.Legs = append(r.Legs, legsOf(s, m, lay, prob, &sol.Routes[i], &links[i], infos[i], infeasible[i])...)
+	// Each link's legs are its own (the engine's caches are safe for concurrent use, the
+	// rest is read): worked out side by side, assembled in link order.
+	legs := make([][]Leg, len(links))
+	if err := ctxio.Each(ctx, len(links), func(i int) {
+		legs[i] = legsOf(s, m, lay, prob, &sol.Routes[i], &links[i], infos[i], infeasible[i])
+	}); err != nil {
+		return nil, err
+	}
+	for _, l := range legs {
+		r.Legs = append(r.Legs, l...)
 	}
 	r.Entrances = entrancesUsed(lay, r.Legs)
 	for _, e := range r.Entrances {

@@ -11,6 +11,7 @@ import (
 	"spanwright/geo"
 	"spanwright/geo/gpkg"
 	"spanwright/geo/postgis"
+	"spanwright/media"
 	"spanwright/media/install"
 	"spanwright/route/optimize"
 )
@@ -31,12 +32,17 @@ type Site struct {
 	dist     sync.Map        // building ID → map[string]float64, see distancesFrom
 	adjOnce  sync.Once
 	adj      *adjacency // junctions joined by spans (spanAdjacency)
+	segOnce  sync.Once
+	segs     map[string][]float64 // span ID → geo.Span.SegmentsM (SegmentsM)
 
 	// Solved keeps the optimizer's solutions of the routing problems solved on this site, by
 	// fingerprint of the canonical problem (see package routing), and Pulls the pull plans of
 	// duct runs (see package estimate): scenarios of a sweep share both.
 	Solved *lru.Cache[[32]byte, *optimize.Solution]
 	Pulls  *install.Memo
+	// Reaches keeps how far each medium reaches on a link (media.Engine.MaxChannelM) across
+	// the engines of a sweep's price books, which seldom change it (see media.ReachMemo).
+	Reaches *media.ReachMemo
 }
 
 // solvedCacheSize bounds the optimizer solutions a site keeps: a sweep's scenarios often
@@ -44,9 +50,14 @@ type Site struct {
 // cost), and a bounded cache keeps a long sweep's memory flat when they do not.
 const solvedCacheSize = 64
 
-// pullCacheSize bounds the pull plans a site keeps: a few hundred scenarios' duct runs of a
-// mid-sized campus.
-const pullCacheSize = 8192
+// pullCacheSize bounds the pull plans a site keeps, by stretch of duct between structures:
+// the stretches of a few scenarios of a 1,000-building campus (2,400 distinct in one plan),
+// and many more of a mid-sized one.
+const pullCacheSize = 16384
+
+// reachCacheSize bounds the media reaches a site keeps: every medium on every link of a
+// 1,000-building campus (five media), and every span class.
+const reachCacheSize = 16384
 
 // Options are the noding options a site is built with, and the cap on its files.
 type Options struct {
@@ -108,6 +119,7 @@ func NewSite(c *geo.Campus, net *geo.Network) *Site {
 		access:   make(map[string]geo.Access, len(net.Access))}
 	s.Solved, _ = lru.New[[32]byte, *optimize.Solution](solvedCacheSize) // errs only on size <= 0
 	s.Pulls = install.NewMemo(pullCacheSize)
+	s.Reaches = media.NewReachMemo(reachCacheSize)
 	for i := range c.Buildings {
 		s.building[c.Buildings[i].ID] = &c.Buildings[i]
 	}
@@ -187,6 +199,22 @@ func (s *Site) Unreachable(hub string) []string {
 		}
 	}
 	return out
+}
+
+// SegmentsM is the lengths of span sp's segments in metres (geo.Span.SegmentsM), computed
+// once per site for every span of its network: the estimate asks them for every span of every
+// leg of every scenario. The slice is shared and must not be modified.
+func (s *Site) SegmentsM(sp *geo.Span) []float64 {
+	s.segOnce.Do(func() {
+		s.segs = make(map[string][]float64, len(s.Net.Spans))
+		for i := range s.Net.Spans {
+			s.segs[s.Net.Spans[i].ID] = s.Net.Spans[i].SegmentsM()
+		}
+	})
+	if v, ok := s.segs[sp.ID]; ok {
+		return v
+	}
+	return sp.SegmentsM() // a span not of this site's network
 }
 
 // Access is the building's access point to the network (zero when the building has none).

@@ -1,0 +1,109 @@
+package media
+
+import (
+	"crypto/sha256"
+	"encoding/json"
+	"slices"
+	"strings"
+
+	lru "github.com/hashicorp/golang-lru/v2"
+)
+
+// ReachMemo remembers MaxChannelM across engines, for callers that build many engines of one
+// catalog and rule set that differ in their prices (the scenarios of a sweep over price
+// books): how far a medium reaches on a link is a matter of the catalog, the rules and the
+// options, and of the price book only through its termination method, the attenuator values
+// it prices, whether it prices the entrance transition's enclosure, and which listed
+// construction is the cheapest to splice on at the entrances. A remembered answer is keyed by
+// all of these (Engine.reachID and insideKey), so it equals a fresh one. It keeps at most the
+// size given to NewReachMemo answers, dropping the least recently used, and is safe for
+// concurrent use. A nil *ReachMemo remembers nothing: its MaxChannelM is the engine's.
+type ReachMemo struct {
+	answers *lru.Cache[sharedMaxKey, float64]
+}
+
+// sharedMaxKey is what a remembered MaxChannelM answer depends on.
+type sharedMaxKey struct {
+	engine [32]byte // Engine.reachID
+	inside string   // Engine.insideKey
+	max    maxKey
+}
+
+// NewReachMemo returns a ReachMemo that keeps at most size answers (at least one).
+func NewReachMemo(size int) *ReachMemo {
+	c, _ := lru.New[sharedMaxKey, float64](max(size, 1)) // errs only on a size <= 0
+	return &ReachMemo{answers: c}
+}
+
+// MaxChannelM is e.MaxChannelM(medium, rateGbps, futureRateGbps, l), remembered across
+// engines whose reach depends on the same facts.
+func (r *ReachMemo) MaxChannelM(e *Engine, medium string, rateGbps, futureRateGbps float64, l Link) float64 {
+	if r == nil || e.reachID == ([32]byte{}) {
+		return e.MaxChannelM(medium, rateGbps, futureRateGbps, l)
+	}
+	k := sharedMaxKey{engine: e.reachID, inside: e.insideKey(medium, rateGbps, l), max: maxKeyOf(medium, rateGbps, futureRateGbps, l)}
+	if v, ok := r.answers.Get(k); ok {
+		return v
+	}
+	v := e.MaxChannelM(medium, rateGbps, futureRateGbps, l)
+	r.answers.Add(k, v)
+	return v
+}
+
+// Purge forgets every remembered answer.
+func (r *ReachMemo) Purge() { r.answers.Purge() }
+
+// reachID digests everything of the engine that MaxChannelM reads besides its arguments and
+// the listed cables' prices (insideKey): the catalog, each rule's scope, condition and effect
+// (in order: a rule's index picks no answer, but it is cheap to keep), the options with the
+// connection losses and margin policy in force, the copper cords, and of the price book the
+// termination method, the attenuator values and whether the transition enclosure is priced.
+// It is zero, and the engine shares nothing, when one of them cannot be encoded.
+func reachID(e *Engine) [32]byte {
+	h := sha256.New()
+	enc := json.NewEncoder(h)
+	type rule struct {
+		ID, When, Effect string
+		Media, Kinds     []string
+	}
+	rules := make([]rule, len(e.rules.Rules))
+	for i, r := range e.rules.Rules {
+		rules[i] = rule{ID: r.ID, When: r.When.String(), Effect: r.Effect, Media: r.Media, Kinds: r.Kinds}
+	}
+	_, transition := e.prices.Price(PriceKey{Item: PriceTransition})
+	parts := []any{e.cat.MatedPairDB, e.cat.SpliceDB, e.cat.DesignPairDB, e.cat.DesignSpliceDB, e.cat.Margins, e.cat.Media, e.cat.Applications,
+		rules, e.opt, e.design, e.field, e.termination, e.margins, e.cordsM, e.attenuators, transition}
+	for _, p := range parts {
+		if err := enc.Encode(p); err != nil {
+			return [32]byte{}
+		}
+	}
+	var id [32]byte
+	h.Sum(id[:0])
+	return id
+}
+
+// insideKey names the listed constructions an entrance transition of medium would splice on
+// for a link with l's facts at rateGbps, one per application at that rate on the medium
+// (transitionInside, which asks the price book for the cheapest); "" when the link can have
+// no transition.
+func (e *Engine) insideKey(medium string, rateGbps float64, l Link) string {
+	m := e.cat.Medium(medium)
+	if m == nil || !m.Fibre() || !l.Outdoor || l.Plenum || l.RiserM <= 0 || slices.Contains(l.PathwayTypes, "tray") {
+		return ""
+	}
+	if _, ok := e.prices.Price(PriceKey{Item: PriceTransition}); !ok {
+		return ""
+	}
+	var b strings.Builder
+	for _, a := range e.cat.Applications {
+		if a.RateGbps != rateGbps || len(e.reachesOn(a, m)) == 0 {
+			continue
+		}
+		if in, _ := e.constructionFor(m, strandsFor(l, a, m), false); in != nil {
+			b.WriteString(in.ID)
+		}
+		b.WriteByte(0)
+	}
+	return b.String()
+}

@@ -1,0 +1,129 @@
+package media
+
+import (
+	"fmt"
+	"strings"
+	"testing"
+)
+
+// bookWith is the demo price book with each old string of its text replaced by the new one.
+func bookWith(t *testing.T, pairs ...string) *PriceBook {
+	t.Helper()
+	src := string(pricesYAML)
+	for i := 0; i+1 < len(pairs); i += 2 {
+		if !strings.Contains(src, pairs[i]) {
+			t.Fatalf("the demo price book has no %q", pairs[i])
+		}
+		src = strings.Replace(src, pairs[i], pairs[i+1], 1)
+	}
+	p, err := ParsePriceBook("test-prices.yaml", []byte(src))
+	if err != nil {
+		t.Fatal(err)
+	}
+	return p
+}
+
+func engineWith(t *testing.T, c *Catalog, r *Rules, p *PriceBook, opt EngineOptions) *Engine {
+	t.Helper()
+	e, err := NewEngine(c, r, p, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return e
+}
+
+// TestReachMemoAnswers: an answer remembered from one engine and given to another equals
+// the other's own, for engines whose books differ in every price (the listed cable the
+// entrance transition splices on chosen otherwise) or lack the transition's enclosure.
+func TestReachMemoAnswers(t *testing.T) {
+	books := []*PriceBook{
+		DefaultPriceBook(),
+		// Riser-listed cable dear: the transition splices on another listed construction.
+		bookWith(t, "ofnr-riser: {12: 1.68, 24: 2.72,", "ofnr-riser: {12: 91.68, 24: 92.72,",
+			"ofnr-riser: {12: 2.62, 24: 4.25,", "ofnr-riser: {12: 92.62, 24: 94.25,"),
+		bookWith(t, "transition_splice_each: 260.00\n", "", "attenuators_each: {3: 16.00, 5: 16.00, 10: 18.00, 15: 18.00}", "attenuators_each: {3: 19.00, 5: 21.00, 10: 28.00, 15: 38.00}"),
+	}
+	memo := NewReachMemo(1 << 12)
+	var fresh []*Engine
+	for _, p := range books {
+		fresh = append(fresh, engineWith(t, nil, nil, p, EngineOptions{}))
+	}
+	if fresh[0].reachID != fresh[1].reachID {
+		t.Error("two books that differ only in prices give engines of different reach")
+	}
+	var questions []Link
+	for _, strands := range []int{2, 12, 48, 288} {
+		for _, riser := range []float64{0, 9, 40} {
+			for _, types := range [][]string{{"duct"}, {"aerial", "duct"}, {"tray"}} {
+				questions = append(questions, Link{ID: "q", RiserM: riser, SlackM: 10, MaxEMI: "none", Outdoor: types[0] != "tray",
+					PathwayTypes: types, ConnectorPairs: 2, Strands: strands, InsideAM: riser / 2, InsideBM: riser / 2})
+			}
+		}
+	}
+	insides := map[string]bool{}
+	checked := 0
+	for round := 0; round < 2; round++ {
+		for i, p := range books {
+			e := engineWith(t, nil, nil, p, EngineOptions{}) // a new engine: nothing of its own remembered
+			for _, med := range e.Media() {
+				for _, rate := range e.Catalog().Rates() {
+					for _, future := range []float64{0, 100} {
+						for _, l := range questions {
+							got := memo.MaxChannelM(e, med, rate, future, l)
+							want := fresh[i].MaxChannelM(med, rate, future, l)
+							if got != want {
+								t.Fatalf("book %d, %s at %g (future %g), %+v: remembered %v m, the engine's own %v m", i, med, rate, future, l, got, want)
+							}
+							insides[fmt.Sprint(i, e.insideKey(med, rate, l))] = true
+							checked++
+						}
+					}
+				}
+			}
+		}
+	}
+	if fresh[0].insideKey("os2", 10, questions[4]) == fresh[1].insideKey("os2", 10, questions[4]) {
+		t.Errorf("the dear riser cable leaves the transition's inside construction as it was: %q", fresh[0].insideKey("os2", 10, questions[4]))
+	}
+	if checked == 0 || len(insides) < 3 {
+		t.Fatalf("checked %d answers over %d inside keys: the test checks nothing", checked, len(insides))
+	}
+}
+
+// TestReachID: everything MaxChannelM reads besides its arguments changes the engine's
+// reachID; prices alone do not.
+func TestReachID(t *testing.T) {
+	base := engineWith(t, nil, nil, nil, EngineOptions{}).reachID
+	if base == ([32]byte{}) {
+		t.Fatal("the default engine has no reach id: nothing is shared")
+	}
+	if id := engineWith(t, nil, nil, bookWith(t, "cable_per_m:\n  cat6a:\n    cmr-riser: {1: 0.95}", "cable_per_m:\n  cat6a:\n    cmr-riser: {1: 1.95}",
+		"transition_splice_each: 260.00", "transition_splice_each: 300.00"), EngineOptions{}).reachID; id != base {
+		t.Error("a change of prices alone changes the reach id")
+	}
+	cat := DefaultCatalog()
+	cat.DesignPairDB += 0.05
+	lessRules := DefaultRules()
+	lessRules.Rules = lessRules.Rules[1:]
+	for _, c := range []struct {
+		name string
+		e    *Engine
+	}{
+		{"catalog", engineWith(t, cat, nil, nil, EngineOptions{})},
+		{"rules", engineWith(t, nil, lessRules, nil, EngineOptions{})},
+		{"loss margin", engineWith(t, nil, nil, nil, EngineOptions{LossMarginDB: 1})},
+		{"pair loss", engineWith(t, nil, nil, nil, EngineOptions{PairLossDB: 0.3})},
+		{"splice loss", engineWith(t, nil, nil, nil, EngineOptions{SpliceLossDB: 0.2})},
+		{"outdoor copper", engineWith(t, nil, nil, nil, EngineOptions{AllowOutdoorCopper: true})},
+		{"termination", engineWith(t, nil, nil, nil, EngineOptions{Termination: TerminationFieldConnector})},
+		{"copper cords", engineWith(t, nil, nil, nil, EngineOptions{CopperCordsM: 5})},
+		{"margins", engineWith(t, nil, nil, nil, EngineOptions{Margins: &MarginPolicy{MultimodeDB: 1, SinglemodeDB: 1}})},
+		{"attenuator values", engineWith(t, nil, nil, bookWith(t, "attenuators_each: {3: 16.00,", "attenuators_each: {4: 16.00,"), EngineOptions{})},
+		{"no transition", engineWith(t, nil, nil, bookWith(t, "transition_splice_each: 260.00\n", ""), EngineOptions{})},
+		{"book's termination", engineWith(t, nil, nil, bookWith(t, "termination_method: spliced-pigtail", "termination_method: factory-connector"), EngineOptions{})},
+	} {
+		if c.e.reachID == base {
+			t.Errorf("a change of %s leaves the reach id as it was", c.name)
+		}
+	}
+}
