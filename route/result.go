@@ -58,12 +58,28 @@ var ErrInfeasible = errors.New("some links are infeasible")
 // InfeasibleError lists the legs a finished plan could not serve.
 type InfeasibleError struct{ Legs []string }
 
+// Error lists the legs one per line, at most ShownInfeasible of them: a large campus can have
+// dozens, each with a long reason; links.csv has every leg with its reason (column reason).
 func (e *InfeasibleError) Error() string {
+	var b strings.Builder
 	if len(e.Legs) == 1 {
-		return fmt.Sprintf("1 infeasible link leg: %v", e.Legs)
+		b.WriteString("1 infeasible link leg:")
+	} else {
+		fmt.Fprintf(&b, "%d infeasible link legs:", len(e.Legs))
 	}
-	return fmt.Sprintf("%d infeasible link legs: %v", len(e.Legs), e.Legs)
+	for i, l := range e.Legs {
+		if i == ShownInfeasible {
+			fmt.Fprintf(&b, "\n  and %d more; links.csv lists every leg with its reason", len(e.Legs)-i)
+			break
+		}
+		b.WriteString("\n  ")
+		b.WriteString(l)
+	}
+	return b.String()
 }
+
+// ShownInfeasible is the most infeasible legs an InfeasibleError names.
+const ShownInfeasible = 10
 
 func (e *InfeasibleError) Unwrap() error { return ErrInfeasible }
 

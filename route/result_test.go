@@ -1,0 +1,37 @@
+package route
+
+import (
+	"errors"
+	"fmt"
+	"strings"
+	"testing"
+)
+
+// TestInfeasibleErrorLines: the terminal gets one infeasible leg per line, at most
+// ShownInfeasible of them and a count of the rest (a 5,000-building campus had 35 legs, each
+// with a reason of several hundred characters, printed as one line); it still wraps
+// ErrInfeasible (exit status 3).
+func TestInfeasibleErrorLines(t *testing.T) {
+	one := &InfeasibleError{Legs: []string{"L1/primary: beyond reach"}}
+	if got, want := one.Error(), "1 infeasible link leg:\n  L1/primary: beyond reach"; got != want {
+		t.Errorf("one leg: got %q, want %q", got, want)
+	}
+	var legs []string
+	for i := range ShownInfeasible + 3 {
+		legs = append(legs, fmt.Sprintf("L%d/primary: beyond reach", i))
+	}
+	many := &InfeasibleError{Legs: legs}
+	lines := strings.Split(many.Error(), "\n")
+	if len(lines) != ShownInfeasible+2 {
+		t.Fatalf("%d legs: %d lines, want %d:\n%s", len(legs), len(lines), ShownInfeasible+2, many.Error())
+	}
+	if want := fmt.Sprintf("%d infeasible link legs:", len(legs)); lines[0] != want {
+		t.Errorf("first line %q, want %q", lines[0], want)
+	}
+	if want := "  and 3 more; links.csv lists every leg with its reason"; lines[len(lines)-1] != want {
+		t.Errorf("last line %q, want %q", lines[len(lines)-1], want)
+	}
+	if !errors.Is(many, ErrInfeasible) {
+		t.Error("does not wrap ErrInfeasible")
+	}
+}
