@@ -145,7 +145,9 @@ func TestJoinedAllAsOneByOne(t *testing.T) {
 		for _, d := range all {
 			j := sv.joined(int(d))
 			want = want && j
-			cuts += b2i(!j)
+			if !j {
+				cuts++
+			}
 		}
 		order := append([]int32(nil), all...)
 		for i := range order { // another order every trial
@@ -167,11 +169,4 @@ func TestJoinedAllAsOneByOne(t *testing.T) {
 	if cuts == 0 {
 		t.Fatal("no forbidden edge cut a demand off: the test checks only the yes answers")
 	}
-}
-
-func b2i(b bool) int {
-	if b {
-		return 1
-	}
-	return 0
 }
