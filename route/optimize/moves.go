@@ -411,10 +411,10 @@ func int32Key(es []int32) []byte {
 // saveBound returns an upper bound of what demand d could save by any reroute once the
 // proposed edges open are opened, as the searches price it: its current cost share (option,
 // cable and labour, edges only it opened, the added ducts it likely holds alone, see
-// holdsLastDuct) less a lower bound of its cost after the opening. What it pays on the edges
-// every route of it takes (forcedFrom: its building's only entrance and lateral) it pays
-// after any reroute too, so only the cable and labour there count: the trench of a lateral
-// that only it uses is not a saving.
+// holdsLastDuct) less a lower bound of its cost after the opening. The trench of an edge
+// every route of it takes (forcedFrom: its building's only entrance and lateral) that only it
+// uses is paid after any reroute too, so it is not a saving; the duct its cable added there
+// is (another of its media may need none).
 // Diverse demands still without a pair get no bound (math.MaxInt64 / 4).
 //
 // The lower bound is the plan tree's (bound.go) less the shortcut each opened edge offers
@@ -440,10 +440,9 @@ func (sv *solver) saveBound(d int, open []int32) int64 {
 		forced := sv.forcedFrom(d)
 		for _, leg := range c.legs {
 			for _, h := range leg {
-				if slices.Contains(forced, int32(h.Edge)) {
-					continue // every route of d pays it as this one does
-				}
-				if sv.fixedE[h.Edge] > 0 && st.count[h.Edge] == 1 {
+				// The trench of a forced edge only d uses: every route of d pays it as this one
+				// does. (Its added duct is still counted: another medium of d may need none.)
+				if sv.fixedE[h.Edge] > 0 && st.count[h.Edge] == 1 && !slices.Contains(forced, int32(h.Edge)) {
 					cur += sv.fixedE[h.Edge]
 				}
 				if sv.limited[h.Edge] && st.added[h.Edge] > 0 && sv.holdsLastDuct(int32(h.Edge), area) {
@@ -456,7 +455,7 @@ func (sv *solver) saveBound(d int, open []int32) int64 {
 			cur += own
 			for _, e := range forced {
 				for _, k := range sv.chargesOf(int(e)) {
-					if st.chUse[k] == sv.chCnt[k] {
+					if sv.chMark[k] == sv.chStamp && st.chUse[k] == sv.chCnt[k] {
 						cur -= sv.p.Charges[k].Cents
 					}
 				}
@@ -526,7 +525,7 @@ func (sv *solver) forcedFrom(d int) []int32 {
 	for v := int32(sv.from[d]); v != int32(sv.to[d]) && len(chain) < maxForced; {
 		next, way, ways := int32(-1), int32(-1), 0
 		for _, a := range n.adj[n.start[v]:n.start[v+1]] {
-			if a.edge != prev && usable(a.edge) {
+			if a.edge != prev && a.to != v && usable(a.edge) {
 				next, way = a.to, a.edge
 				ways++
 			}
@@ -709,7 +708,7 @@ func (sv *solver) openMoves() bool {
 			} else {
 				barren = 0
 			}
-			if gain > openCost || gain+bound <= openCost || (large && barren >= maxBarren) {
+			if gain > openCost || gain+bound <= openCost || (large && barren >= maxBarren && 2*gain < openCost) {
 				break
 			}
 		}
@@ -753,12 +752,15 @@ func (sv *solver) openMoves() bool {
 
 // maxBarren is, on problems too large for the perturbation phase (demands × proposed edges
 // above maxKickWork), the most estimates in a row that may find no saving before an open move
-// is given up: the affected demands are estimated in order of their saving bounds, which on
-// such campuses are loose (a candidate run concerns some 90 demands at 5,000 buildings, and
-// refuting it cost about 75 estimates). On the generated 5,000-building campus of the
-// benchmarks, 16 cut the estimates from 409,000 to 138,000 and raised the plan cost by 0.06 %
-// (8: 70,000 and 0.16 %); the 1,000-building plan was the same. Smaller problems estimate as
-// before: their moves are checked against the exact optimum (make soak).
+// is given up, unless the savings found so far reach half its trench: the affected demands
+// are estimated in order of their saving bounds, which on such campuses are loose (a
+// candidate run concerns some 90 demands at 5,000 buildings, and refuting it cost about 75
+// estimates). A move given up is recorded as failed (failedOpen) like one refuted: it is
+// tried again only when one of its demands changes route. On the generated 5,000-building
+// campus, 16 (without the half-trench proviso) cut the estimates from 409,000 to 138,000 and
+// raised the plan cost by 0.06 % (8: 70,000 and 0.16 %); the 1,000-building plan was the
+// same. Smaller problems estimate as before: their moves are checked against the exact
+// optimum (make soak).
 const maxBarren = 16
 
 // swapWidth is the number of spans swapMoves tries in place of each opened span.

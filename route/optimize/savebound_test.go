@@ -12,6 +12,7 @@ func TestSaveBoundCoversEstimate(t *testing.T) {
 	for _, seed := range []uint64{4, 5} {
 		p := campus(campusSpec{buildings: 120, seed: seed, diverseFrac: 0.1, options: 3, capacity: true, proposedPct: 25})
 		oneEntrance(p)
+		p = withTransitCharges(p, 3) // handholes at turns and where new spans join, after oneEntrance
 		sv := newSolver(p, Settings{})
 		sv.dual = sv.ascend()
 		sv.start(false)
@@ -168,5 +169,74 @@ func TestJoinedAllAsOneByOne(t *testing.T) {
 	}
 	if cuts == 0 {
 		t.Fatal("no forbidden edge cut a demand off: the test checks only the yes answers")
+	}
+}
+
+// TestSaveBoundOtherMedium: the duct a demand's cable added on its building's only lateral
+// (a full duct) is a saving when another of its media takes no duct area there: the bound
+// must count it (a bound that left it out, as forced, fell 5,000 cents below the estimate).
+// Hand-built: building 0's only edge is a full duct (50 m, a duct added at 100 cents/m);
+// medium A (10 mm) runs on the street 1–2 near EMI; medium B (no duct area, excludes EMI)
+// can reach the hub only over the proposed span 3–2.
+func TestSaveBoundOtherMedium(t *testing.T) {
+	p := &Problem{Nodes: 4, AllowNew: true, Edges: []Edge{
+		{ID: "lateral", From: 0, To: 1, LengthM: 50, DuctIDMM: 50, Ducts: 0, AddDuctPerMCents: 100},
+		{ID: "street", From: 1, To: 2, LengthM: 100, Flags: FlagHighEMI},
+		{ID: "side", From: 1, To: 3, LengthM: 10},
+		{ID: "new", From: 3, To: 2, LengthM: 100, Proposed: true, FixedCents: 1_000_000},
+	}, Demands: []Demand{{ID: "L", Source: 0, Target: 2, Options: []Option{
+		{Name: "A", CablePerMCents: 500, CableODMM: 10},
+		{Name: "B", CablePerMCents: 100, ExcludeFlags: FlagHighEMI},
+	}}}}
+	sv := newSolver(p, Settings{})
+	sv.start(false)
+	sv.flush()
+	if c := sv.st.ch[0]; c.opt != 0 || sv.st.added[0] != 1 {
+		t.Fatalf("start: option %d with %d added ducts on the lateral; want A adding 1", c.opt, sv.st.added[0])
+	}
+	if got := sv.forcedFrom(0); len(got) != 1 || got[0] != 0 {
+		t.Fatalf("forced edges %v, want the lateral [0]", got)
+	}
+	sv.sbVer++ // as openMoves does before its bounds
+	b := sv.saveBound(0, []int32{3})
+	sv.setPhantom(3, true)
+	g := sv.estimate(0)
+	sv.setPhantom(3, false)
+	// A: 150 m × 500 + the duct 50 m × 100 = 80,000; B over the new span: 160 m × 100 = 16,000.
+	if g != 64_000 || g > b {
+		t.Errorf("estimate %d (want 64,000), saveBound %d: want the bound at least the estimate", g, b)
+	}
+}
+
+// TestSaveBoundOwnTrench: a trench only the demand opened, off its forced edges, is a saving
+// when another run opens (the bound must count it). Hand-built: building 0 has two ways out
+// (0–1 and 0–4, 10 m each); the demand opened the new span 1–2 (100 m, 50,000 cents); opening
+// 4–2 (100 m, 60,000) lets it leave 1–2 and save its trench.
+func TestSaveBoundOwnTrench(t *testing.T) {
+	p := &Problem{Nodes: 5, AllowNew: true, Edges: []Edge{
+		{ID: "a", From: 0, To: 1, LengthM: 10},
+		{ID: "p1", From: 1, To: 2, LengthM: 100, Proposed: true, FixedCents: 50_000},
+		{ID: "b", From: 0, To: 4, LengthM: 10},
+		{ID: "p2", From: 4, To: 2, LengthM: 100, Proposed: true, FixedCents: 60_000},
+		{ID: "long", From: 0, To: 3, LengthM: 10},
+		{ID: "long2", From: 3, To: 2, LengthM: 1000},
+	}, Demands: []Demand{{ID: "L", Source: 0, Target: 2, Options: []Option{{Name: "A", CablePerMCents: 100}}}}}
+	sv := newSolver(p, Settings{})
+	sv.start(false)
+	sv.flush()
+	if sv.st.count[1] != 1 {
+		t.Fatalf("start: the new span 1–2 carries %d cables, want 1", sv.st.count[1])
+	}
+	if got := sv.forcedFrom(0); len(got) != 0 {
+		t.Fatalf("forced edges %v, want none (two ways out)", got)
+	}
+	sv.sbVer++
+	b := sv.saveBound(0, []int32{3})
+	sv.setPhantom(3, true)
+	g := sv.estimate(0)
+	sv.setPhantom(3, false)
+	// Staying: 110 m × 100 + its own trench 50,000 = 61,000; over 4–2, free while phantom: 11,000.
+	if g != 50_000 || g > b {
+		t.Errorf("estimate %d (want 50,000), saveBound %d: want the bound at least the estimate", g, b)
 	}
 }
