@@ -348,7 +348,7 @@ func TestPayloadTerminal(t *testing.T) {
 	}{
 		{[]string{"check", islandPlan}, exitInfeasible, "cannot reach it: [ISLE<U+000A>" + forged + "]"},
 		{[]string{"check", plan}, exitOK, "hub         <U+001B>[31mRED: every building can reach it"},
-		{[]string{"plan", plan, "--out", filepath.Join(dir, "out")}, exitInfeasible, "  <U+001B>[31mRED-B<U+202E>evil<U+2066> diverse: "},
+		{[]string{"plan", plan, "--out", filepath.Join(dir, "out")}, exitInfeasible, "  <U+001B>[31mRED-B<U+202E>evil<U+2066>/diverse: "},
 		{[]string{"plan", plan, "--out", filepath.Join(dir, "out2"), "--prices", filepath.Join(dir, "none\x1b[2J.yaml")}, exitInvalid, "none<U+001B>[2J.yaml"},
 	} {
 		cmd := exec.Command(os.Args[0], tc.args...)

@@ -589,10 +589,17 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 	}
 	if s.Infeasible > 0 {
 		fmt.Fprintf(w, "%s infeasible:\n", Counted(s.Infeasible, "leg", "legs"))
+		shown := 0
 		for _, l := range r.Legs {
-			if !l.Feasible {
-				fmt.Fprintf(w, "  %s %s: %s\n", t(l.Link.ID), t(l.Name), t(l.Reason))
+			if l.Feasible {
+				continue
 			}
+			if shown == route.ShownInfeasible {
+				fmt.Fprintf(w, "  and %d more; links.csv lists every leg with its reason\n", s.Infeasible-shown)
+				break
+			}
+			fmt.Fprintf(w, "  %s/%s: %s\n", t(l.Link.ID), t(l.Name), t(l.Reason))
+			shown++
 		}
 	}
 	if len(s.MediaMix) > 0 {
@@ -636,7 +643,7 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 		if s.Gap != nil && *s.Gap <= 1e-9 {
 			closed = " (proved optimal)"
 		}
-		fmt.Fprintf(w, "optimizer: routes %s by the cost model, proved lower bound %s, gap %s%s\n",
+		fmt.Fprintf(w, "optimizer: routes %s by the optimizer's objective, proved lower bound %s, gap %s%s\n",
 			media.FormatCents(s.ObjectiveCents), media.FormatCents(*s.LowerBound), gapText(s.Gap), closed)
 	}
 	e := r.Estimate
@@ -675,6 +682,9 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 	}
 	fmt.Fprintf(w, "total %s %s: %s, markups %s (%s)\n", media.FormatCents(b.TotalCents), t(b.Currency), strings.Join(cats, ", "),
 		media.FormatCents(b.TotalCents-b.SubtotalCents), t(b.Label))
+	if note := s.PricedNote(); note != "" {
+		fmt.Fprintf(w, "warning: %s\n", note)
+	}
 	if s.BudgetCents > 0 {
 		word, over := "under", -s.OverBudgetCents
 		if s.OverBudgetCents > 0 {
@@ -689,6 +699,17 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 		fmt.Fprintf(w, "warning: %s\n", s.DemoPrices)
 	}
 	return nil
+}
+
+// PricedNote says, when some legs are infeasible, that the plan's costs price only the
+// feasible ones (an infeasible leg has no route, no medium and no bill lines); "" when every
+// leg is feasible. The terminal and the report print it beside the total.
+func (s Summary) PricedNote() string {
+	if s.Infeasible == 0 {
+		return ""
+	}
+	return fmt.Sprintf("the total prices the %s of %d only; %s not priced (no route or medium was found)",
+		Counted(s.Legs-s.Infeasible, "feasible leg", "feasible legs"), s.Legs, Counted(s.Infeasible, "infeasible leg is", "infeasible legs are"))
 }
 
 // DemoPricesWarning is the warning printed on the terminal, written in summary.json and shown

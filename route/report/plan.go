@@ -182,6 +182,7 @@ type planView struct {
 	Opened     int
 	Worst      string
 	Total      string
+	PricedNote string // output.Summary.PricedNote
 	Budget     string
 	Over       string
 	OverPct    string
@@ -375,6 +376,7 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 		v.Worst = dB(*s.WorstMarginDB) + " dB"
 	}
 	v.Total = money(s.TotalCents)
+	v.PricedNote = s.PricedNote()
 	v.HasBudget = s.BudgetCents > 0
 	if v.HasBudget {
 		v.Budget = money(s.BudgetCents)
