@@ -131,10 +131,18 @@ func (r *Report) Err() error {
 		if r.Infeasible == 1 {
 			verb = " has"
 		}
-		return fmt.Errorf("%d of %s%s infeasible legs: %w", r.Infeasible, output.Counted(r.Run, "scenario", "scenarios"), verb, route.ErrInfeasible)
+		return infeasibleRows(fmt.Sprintf("%d of %s%s infeasible legs (the rows whose status is infeasible in compare.csv; each folder's links.csv gives the reasons)",
+			r.Infeasible, output.Counted(r.Run, "scenario", "scenarios"), verb))
 	}
 	return nil
 }
+
+// infeasibleRows is Err's error when scenarios have infeasible legs: its own text, wrapping
+// route.ErrInfeasible (exit status 3) without repeating that error's words.
+type infeasibleRows string
+
+func (e infeasibleRows) Error() string { return string(e) }
+func (e infeasibleRows) Unwrap() error { return route.ErrInfeasible }
 
 func (r *Report) count(row Row) {
 	if row.DemoPrices {
