@@ -564,10 +564,9 @@ func summaryJSON(w io.Writer, r *route.Result) error {
 	return err
 }
 
-// wideGap is the gap above which the terminal says what a wide gap means. On the campuses
-// where CBC proved the optimum (make soak) the plans are at it while the bound's gap is up to
-// tens of per cent, and the generated 1,000- and 5,000-building campuses give 68 % and 33 %:
-// the bound, whose ascent is capped on large campuses, is usually the weak side.
+// wideGap is the gap above which the terminal says what a wide gap means: the bound's dual
+// ascent is capped on large campuses (route/optimize, lowerbound.go), so there the bound is
+// usually the weak side (the generated 1,000- and 5,000-building campuses give 68 % and 33 %).
 const wideGap = 0.10
 
 // gapText formats a gap (a fraction) in percent; "—" for none.
