@@ -132,13 +132,21 @@ func build(ctx context.Context, dsn string, layers []Layer) error {
 // held in memory: SQLite keeps its own small page cache. What fails Bytes fails WriteTo,
 // before anything is written to w; an error of w is returned as it is.
 func WriteTo(ctx context.Context, w io.Writer, layers []Layer) error {
+	return WriteToIn(ctx, w, layers, "")
+}
+
+// WriteToIn is WriteTo building the database in a scratch file in folder dir ("" for the
+// system's temporary folder). A caller that writes into a staging folder passes it, so that a
+// killed process leaves its scratch file where the next run clears it, not in the temporary
+// folder.
+func WriteToIn(ctx context.Context, w io.Writer, layers []Layer, dir string) error {
 	if err := check(layers); err != nil {
 		return err
 	}
 	if err := ctx.Err(); err != nil {
 		return err
 	}
-	tmp, err := os.CreateTemp("", "spanwright-gpkg-*.gpkg")
+	tmp, err := os.CreateTemp(dir, ".spanwright-gpkg-*.gpkg")
 	if err != nil {
 		return fmt.Errorf("gpkgout: %w", err)
 	}

@@ -229,3 +229,42 @@ func TestWriteToLeavesNoTemporaryFile(t *testing.T) {
 		t.Errorf("left in the temporary folder: %v", ents)
 	}
 }
+
+// TestWriteToInScratchThere: WriteToIn builds its scratch database in the folder it is given
+// (a caller's staging folder, which the next run clears after a killed one), with a name
+// starting with a dot, and removes it; the system's temporary folder is not used. Not
+// parallel: it points TMPDIR at a folder of its own.
+func TestWriteToInScratchThere(t *testing.T) {
+	sys, dir := t.TempDir(), t.TempDir()
+	t.Setenv("TMPDIR", sys)
+	seen := &scratchSpy{dir: dir}
+	if err := WriteToIn(context.Background(), seen, sample(), dir); err != nil {
+		t.Fatal(err)
+	}
+	if len(seen.names) != 1 || !strings.HasPrefix(seen.names[0], ".spanwright-gpkg-") {
+		t.Errorf("while writing, %s held %v; want one scratch file named .spanwright-gpkg-*", dir, seen.names)
+	}
+	for _, d := range []string{sys, dir} {
+		if ents, _ := os.ReadDir(d); len(ents) != 0 {
+			t.Errorf("left in %s: %v", d, ents)
+		}
+	}
+}
+
+// scratchSpy is a writer that lists dir when first written to.
+type scratchSpy struct {
+	dir   string
+	names []string
+	done  bool
+}
+
+func (s *scratchSpy) Write(p []byte) (int, error) {
+	if !s.done {
+		s.done = true
+		ents, _ := os.ReadDir(s.dir)
+		for _, e := range ents {
+			s.names = append(s.names, e.Name())
+		}
+	}
+	return len(p), nil
+}

@@ -111,7 +111,8 @@ func (sc *schedule) work() {
 		p := sc.parts[i]
 		err := sc.ctxs[i].Err()
 		if err == nil {
-			err = sc.set.write(p.Name, func(w io.Writer) error { return p.Render(sc.ctxs[i], w) })
+			ctx := context.WithValue(sc.ctxs[i], scratchKey{}, sc.set.tmp)
+			err = sc.set.write(p.Name, func(w io.Writer) error { return p.Render(ctx, w) })
 		}
 		sc.end(i, err)
 	}
@@ -156,4 +157,16 @@ func (sc *schedule) end(i int, err error) {
 		}
 	}
 	sc.wake.Broadcast()
+}
+
+// scratchKey is the context key of ScratchDir.
+type scratchKey struct{}
+
+// ScratchDir returns, to a renderer that WriteParts runs, the set's staging folder: a
+// renderer that needs a scratch file (the GeoPackage is built in one) makes it there, with a
+// name that starts with a dot and is no output's, and removes it before it returns; a killed
+// run leaves it in the staging folder, which the next run clears. "" outside WriteParts.
+func ScratchDir(ctx context.Context) string {
+	dir, _ := ctx.Value(scratchKey{}).(string)
+	return dir
 }

@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"io"
+	"os"
 	"path/filepath"
 	"slices"
 	"strings"
@@ -230,4 +231,46 @@ func TestWritePartsStopped(t *testing.T) {
 	if err := set.Commit(); err == nil {
 		t.Error("a stopped set committed")
 	}
+}
+
+// TestScratchDirIsStaging: a renderer that WriteParts runs is given the set's staging folder
+// as its scratch folder (not the output folder, not the system's temporary folder), and a
+// scratch file it removes before returning leaves nothing in the committed set.
+func TestScratchDirIsStaging(t *testing.T) {
+	var dirs []string
+	var mu sync.Mutex
+	parts := partsOf("new", func(ctx context.Context, i int) error {
+		dir := ScratchDir(ctx)
+		f, err := os.CreateTemp(dir, ".scratch-*")
+		if err != nil {
+			return err
+		}
+		f.Close()
+		mu.Lock()
+		dirs = append(dirs, dir)
+		mu.Unlock()
+		return os.Remove(f.Name())
+	})
+	set, out := beginPartsWith(t, context.Background(), parts, begins[0].begin)
+	defer set.Abort()
+	if err := set.WriteParts(parts, 2, 0); err != nil {
+		t.Fatal(err)
+	}
+	if err := set.Commit(); err != nil {
+		t.Fatal(err)
+	}
+	if len(dirs) == 0 {
+		t.Fatal("no renderer ran")
+	}
+	for _, d := range dirs {
+		if d == "" || d == out || d == os.TempDir() {
+			t.Errorf("scratch folder %q; want the set's staging folder", d)
+		}
+	}
+	if ScratchDir(context.Background()) != "" {
+		t.Error("ScratchDir outside WriteParts is not empty")
+	}
+	wholeSet(t, out, "new")
+	noLeftovers(t, out)
+	noLeftovers(t, filepath.Dir(out))
 }

@@ -8,6 +8,7 @@ import (
 	"io"
 	"math"
 	"slices"
+	"spanwright/route/fileset"
 	"strings"
 
 	"spanwright/geo"
@@ -146,7 +147,7 @@ func writeGeoPackage(ctx context.Context, w io.Writer, r *route.Result) error {
 	if err != nil {
 		return err
 	}
-	return gpkgout.WriteTo(ctx, w, layers)
+	return gpkgout.WriteToIn(ctx, w, layers, fileset.ScratchDir(ctx))
 }
 
 // planLayers lays out plan.gpkg's layers (gpkgLayers) with the plan's features.
