@@ -192,7 +192,7 @@ func TestRulesBad(t *testing.T) {
 		{"unknown_fact.yaml", ErrUnknownFact, []string{`unknown_fact.yaml:8:23: rule "reach": when: unknown fact "chanel_m"; did you mean "channel_m"?`}},
 		{"unknown_field.yaml", ErrUnknownField, []string{
 			`unknown_field.yaml:3:5: rule "copper-100m": effect: missing`,
-			`unknown_field.yaml:5:5: rule "copper-100m": efect: unknown key; want one of effect, id, kinds, media, reason, source, when`,
+			`unknown_field.yaml:5:5: rule "copper-100m": efect: unknown key; did you mean effect? want one of effect, id, kinds, media, reason, source, when`,
 		}},
 		{"many.yaml", ErrDuplicateID, []string{
 			`many.yaml:10:38: rule "block": when: max_emi is one of none, low, high, got "severe"`,

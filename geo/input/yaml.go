@@ -2,9 +2,11 @@ package input
 
 import (
 	"fmt"
+	"maps"
 	"math"
 	"reflect"
 	"regexp"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -300,7 +302,7 @@ func (d *Decoder) structure(n *yaml.Node, v reflect.Value, at loc) {
 		}
 		fi, ok := fields[k.Value]
 		if !ok {
-			d.fail(k, kl, Errorf(ErrUnknownKey, "unknown key; want one of %s", sortedKeys(fields)))
+			d.fail(k, kl, Errorf(ErrUnknownKey, "unknown key;%s want one of %s", didYouMean(k.Value, fields), sortedKeys(fields)))
 			continue
 		}
 		kl.rng, kl.keyRng = d.tagRange(t.Field(fi), "range"), d.tagRange(t.Field(fi), "keyrange")
@@ -381,6 +383,51 @@ func (mg *merger) pairs(n *yaml.Node) [][2]*yaml.Node {
 	}
 	mg.memo[n] = out
 	return out
+}
+
+// didYouMean returns " did you mean KEY?" naming the known key nearest to key, when exactly
+// one is nearest and within a third of key's length in edits (insertions, deletions,
+// substitutions; at least one edit), or starts with key and "_" (a unit left off: snap for
+// snap_m); "" otherwise.
+func didYouMean[V any](key string, known map[string]V) string {
+	best, bestD, ties := "", max(1, len(key)/3)+1, 0
+	for _, k := range slices.Sorted(maps.Keys(known)) {
+		d := editDistance(key, k)
+		if strings.HasPrefix(k, key+"_") {
+			d = 1
+		}
+		switch {
+		case d < bestD:
+			best, bestD, ties = k, d, 1
+		case d == bestD:
+			ties++
+		}
+	}
+	if best == "" || ties > 1 {
+		return ""
+	}
+	return " did you mean " + best + "?"
+}
+
+// editDistance is the Levenshtein distance between a and b, in bytes.
+func editDistance(a, b string) int {
+	prev := make([]int, len(b)+1)
+	cur := make([]int, len(b)+1)
+	for j := range prev {
+		prev[j] = j
+	}
+	for i := 1; i <= len(a); i++ {
+		cur[0] = i
+		for j := 1; j <= len(b); j++ {
+			sub := prev[j-1]
+			if a[i-1] != b[j-1] {
+				sub++
+			}
+			cur[j] = min(sub, prev[j]+1, cur[j-1]+1)
+		}
+		prev, cur = cur, prev
+	}
+	return prev[len(b)]
 }
 
 func sortedKeys[V any](m map[string]V) string {

@@ -54,8 +54,8 @@ func TestParsePlanErrors(t *testing.T) {
 	}{
 		{"not yaml", "campus: [", []string{"plan.yaml:1: not YAML: did not find expected node content"}},
 		{"not a mapping", "- a\n- b\n", []string{"plan.yaml:1:1: want a mapping, got a list"}},
-		{"unknown key", "campus: [c.geojson]\nbudgit: 3\n", []string{"plan.yaml:2:1: budgit: unknown key; want one of budget, campus, campus_database, catalog, defaults, design, hub, links, name, prices, rules"}},
-		{"unknown nested key", "campus: [c.geojson]\ndesign: {snap: 2}\n", []string{"plan.yaml:2:10: design.snap: unknown key; want one of allow_new_trench, "}},
+		{"unknown key", "campus: [c.geojson]\nbudgit: 3\n", []string{"plan.yaml:2:1: budgit: unknown key; did you mean budget? want one of budget, campus, campus_database, catalog, defaults, design, hub, links, name, prices, rules"}},
+		{"unknown nested key", "campus: [c.geojson]\ndesign: {snap: 2}\n", []string{"plan.yaml:2:10: design.snap: unknown key; did you mean snap_m? want one of allow_new_trench, "}},
 		{"unknown link key", "campus: [c.geojson]\nlinks:\n  - {to: A, speed: 10G}\n", []string{"plan.yaml:3:13: links[0].speed: unknown key; want one of from, future_rate, growth, rate, redundancy, skip, strands, to"}},
 		{"no campus", "name: x\n", []string{"plan.yaml: campus: missing; name at least one campus file (GeoJSON, or GeoPackage .gpkg), or a campus_database"}},
 		{"bad budget", "campus: [c]\nbudget: 12.345\n", []string{`plan.yaml:2:9: budget: want an amount such as 1250000 or 99.95, got "12.345"`}},
@@ -65,7 +65,7 @@ func TestParsePlanErrors(t *testing.T) {
 		// Each problem on its own line, with its line and column, in line order: unknown keys
 		// and bad values together, named by their key path, never by a Go type.
 		{"nested problems on their own lines", "campus: [c]\ndesign:\n  snap: 2\n  loss_margin_db: lots\n  pull_mu: 0.3\n  slak_m: 1\n",
-			[]string{"plan.yaml:3:3: design.snap: unknown key; want one of ", "\nplan.yaml:4:19: design.loss_margin_db: want a number, got \"lots\"\nplan.yaml:6:3: design.slak_m: unknown key"}},
+			[]string{"plan.yaml:3:3: design.snap: unknown key; did you mean snap_m? want one of ", "\nplan.yaml:4:19: design.loss_margin_db: want a number, got \"lots\"\nplan.yaml:6:3: design.slak_m: unknown key"}},
 		{"innerduct inside without outside", "campus: [c]\ndesign: {innerduct_id_mm: 27}\n", []string{"plan.yaml:2:27: design.innerduct_id_mm: want it only with design.innerduct_od_mm, got 27 without"}},
 		{"innerduct inside not below outside", "campus: [c]\ndesign: {innerduct_od_mm: 32, innerduct_id_mm: 32}\n", []string{"plan.yaml:2:48: design.innerduct_id_mm: want millimetres above 0 and below innerduct_od_mm (32), got 32"}},
 		{"negative sidewall limit", "campus: [c]\ndesign: {pull_max_swbp_n_per_m: -1}\n", []string{"plan.yaml:2:33: design.pull_max_swbp_n_per_m: want N/m from 0 to 100000, got -1"}},
