@@ -293,6 +293,13 @@ func ParsePlanOptions(name string, data []byte, o LoadOptions) (*Plan, error) {
 	var errs input.Problems
 	d := &input.Decoder{File: name, Problems: &errs, Class: ErrPlan, Where: p.at, RangeOf: SettingRange}
 	if root := d.Parse(data, &p); root != nil && input.Resolve(root).Kind == yaml.MappingNode {
+		if isSweepFile(p.at) {
+			// Its keys are all unknown to a plan: say what the file is instead.
+			errs = input.Problems{}
+			errs.Add(p.Problem("base", input.Errorf(input.ErrUnknownKey,
+				"this is a sweep file (it has base: and vary: or cases:), not a plan; run `spanwright sweep %s --out DIR`", name)))
+			return nil, errs.Err()
+		}
 		for i := range p.Links {
 			p.Links[i].Line = p.at[fmt.Sprintf("links[%d]", i)].Line
 		}
@@ -306,6 +313,15 @@ func ParsePlanOptions(name string, data []byte, o LoadOptions) (*Plan, error) {
 		return nil, err
 	}
 	return &p, nil
+}
+
+// isSweepFile reports whether a file read as a plan has the top-level keys of a sweep file
+// (route/sweep): base, and vary or cases; no plan has them.
+func isSweepFile(at map[string]input.Pos) bool {
+	_, base := at["base"]
+	_, vary := at["vary"]
+	_, cases := at["cases"]
+	return base && (vary || cases)
 }
 
 // validate adds to errs the problems the walker cannot see: values outside a list of
