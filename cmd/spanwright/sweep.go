@@ -173,6 +173,9 @@ func printReport(w io.Writer, rep *sweep.Report, shard sweep.Shard) {
 		fmt.Fprintf(w, " (%d unchanged, kept)", rep.Skipped)
 	}
 	fmt.Fprintln(w)
+	for _, n := range rep.Notes {
+		fmt.Fprintf(w, "note: %s\n", escape.Terminal(n))
+	}
 	for i, r := range rep.Failures {
 		if i == 10 {
 			fmt.Fprintf(w, "  and %d more failed (see compare.md or each scenario's error.txt)\n", len(rep.Failures)-10)

@@ -116,6 +116,9 @@ type Report struct {
 	Failures   []Row    // the failed scenarios' rows, in index order
 	DemoPrices int      // scenarios priced by the invented demo price book
 	Files      []string // files written besides the scenario folders, sorted
+	// Notes say what the run did that the user may not expect: a kept base scenario planned
+	// again because its folder was not as the sweep wrote it.
+	Notes []string
 }
 
 // Err sums up the report as an error: nil when every scenario planned with all legs
@@ -225,6 +228,7 @@ func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
 		rep.count(rows[i])
 	}
 	rep.Skipped = r.skipped
+	rep.Notes = r.notes
 	if err != nil {
 		return rep, err
 	}
@@ -300,6 +304,7 @@ type runner struct {
 
 	mu      sync.Mutex
 	skipped int
+	notes   []string // what the run did that the user may not expect (Report.Notes)
 	// trash lists replaced scenario folders, moved aside under temporary names and removed
 	// once the scenarios are done: deleting while writing slows inode allocation on some file
 	// systems (journal-less ext4 scans past recently deleted inodes), and a stopped sweep's

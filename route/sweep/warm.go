@@ -70,6 +70,11 @@ func (r *runner) planBase(ctx context.Context) error {
 		if err != nil {
 			// Its folder is not whole, or not as the sweep wrote it (a routes.geojson edited by
 			// hand would steer every warm scenario): plan it (and write it, when it is this run's).
+			why := "its outputs are not those its " + OutputsFile + " lists (edited or removed by hand?)"
+			if !errors.Is(err, errChanged) {
+				why = err.Error()
+			}
+			r.notes = append(r.notes, fmt.Sprintf("base scenario %s planned again: %s; the warm scenarios start from it as the sweep planned it", sc.ID, why))
 			if out, err = r.scenario(ctx, sc, false); err != nil {
 				return err
 			}

@@ -189,6 +189,9 @@ func TestResumeReplansEditedBase(t *testing.T) {
 	if rep.Skipped != rep.Run-1 {
 		t.Errorf("resume after editing the base's routes: %d of %d kept, want all but the base", rep.Skipped, rep.Run)
 	}
+	if len(rep.Notes) != 1 || !strings.Contains(rep.Notes[0], "planned again: its outputs are not those its outputs.sha256 lists") {
+		t.Errorf("resume after editing the base's routes: notes %q; want one saying the base was planned again and why", rep.Notes)
+	}
 	sameTree(t, "resumed after editing the base's routes", before, tree(t, dir))
 
 	sum := sha256sum(t)
