@@ -111,7 +111,10 @@ type Construction struct {
 	BoreM   float64            // the same built by directional bore (pathways with method bore)
 	// NewM is all new civil work in metres, trenched or bored: the sum of TrenchM and BoreM,
 	// computed once here and printed from here everywhere (summary, terminal, report, sweeps).
-	NewM       float64
+	NewM float64
+	// LateralM is the part of NewM that is building laterals counted as new construction
+	// (Entrances with a LateralM): built whether or not the plan may open new spans.
+	LateralM   float64
 	AddedDuctM float64 // duct metres added: new duct in opened duct spans plus added ducts
 	// NewJunctions are the handholes where opened pathways join the network at a junction
 	// with no structure (common practice, no published source), by junction ID.
@@ -676,6 +679,7 @@ func (r *run) construction() {
 		lat := &geo.Span{Type: geo.TypeDuct, LengthM: en.LateralM}
 		c.newWork(lat, items.MethodOf(r.Engine.PriceBook(), lat), r.newFrom, fromEntrance(en))
 		c.AddedDuctM += float64(max(design.NewDucts, 1)) * en.LateralM
+		c.LateralM += en.LateralM
 		r.newFrom[keyAddedDuct] = append(r.newFrom[keyAddedDuct], fromEntrance(en))
 	}
 	// The handholes are the routing's (routing.Routed.Handholes): the optimizer's charges it

@@ -662,9 +662,16 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 		return nil
 	}
 	c := e.Construction
-	bored := ""
+	var of []string
 	if c.BoreM > 0 {
-		bored = " (" + length(c.BoreM) + " of it bored)"
+		of = append(of, length(c.BoreM)+" of it bored")
+	}
+	if c.LateralM > 0 {
+		of = append(of, length(c.LateralM)+" of it building laterals")
+	}
+	bored := ""
+	if len(of) > 0 {
+		bored = " (" + strings.Join(of, "; ") + ")"
 	}
 	fmt.Fprintf(w, "construction: new trench %s%s, added duct %s, %s where new pathway joins, %d along new construction, %d for added pull points; %s used\n",
 		length(c.NewM), bored, length(c.AddedDuctM), Counted(len(c.NewJunctions), "handhole", "handholes"), len(c.RunHandholes), e.AddedPullPoints,

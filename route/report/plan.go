@@ -179,7 +179,8 @@ type planView struct {
 	Feasible   int
 	TotalRoute string
 	NewTrench  string
-	Opened     int
+	Laterals   string // the building laterals' part of NewTrench, "" for none
+	Opened     string // "N proposed spans"
 	Worst      string
 	Total      string
 	PricedNote string // output.Summary.PricedNote
@@ -371,7 +372,10 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 	v.Feasible = s.Legs - s.Infeasible
 	v.TotalRoute = opt.lengthU(s.TotalRouteM)
 	v.NewTrench = opt.lengthU(s.NewTrenchM)
-	v.Opened = len(r.Opened)
+	if r.Estimate != nil && r.Estimate.Construction.LateralM > 0 {
+		v.Laterals = opt.lengthU(r.Estimate.Construction.LateralM)
+	}
+	v.Opened = output.Counted(len(r.Opened), "proposed span", "proposed spans")
 	if s.WorstMarginDB != nil {
 		v.Worst = dB(*s.WorstMarginDB) + " dB"
 	}
