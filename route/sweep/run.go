@@ -220,6 +220,9 @@ func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
 	}
 	rows, err := r.runAll(ctx, mine)
 	r.emptyTrash()
+	if n := r.foreign(f.Scenarios()); n != "" {
+		r.notes = append(r.notes, n)
+	}
 	rep := &Report{Scenarios: len(f.Scenarios()), Run: len(mine)}
 	for i := range rows {
 		if rows[i].ID == "" {
@@ -368,6 +371,48 @@ func (r *runner) makeOut() error {
 		return &fileset.OutputError{Path: r.opt.Out, Err: err}
 	}
 	return fileset.RecoverFiles(r.absOut)
+}
+
+// foreign returns a note naming the scenario folders in the output folder (folders holding a
+// plan.yaml) that are no scenario of this sweep: left by an earlier sweep file under
+// --resume. The comparison leaves them out; they are not removed (they may be wanted). ""
+// when there are none.
+func (r *runner) foreign(all []Scenario) string {
+	ents, err := os.ReadDir(r.out)
+	if err != nil {
+		return ""
+	}
+	ids := make(map[string]bool, len(all))
+	for _, s := range all {
+		ids[s.ID] = true
+	}
+	var names []string
+	for _, e := range ents {
+		n := e.Name()
+		if !e.IsDir() || strings.HasPrefix(n, ".") || ids[n] {
+			continue
+		}
+		if _, err := os.Stat(filepath.Join(r.out, n, PlanFile)); err == nil {
+			names = append(names, n)
+		}
+	}
+	if len(names) == 0 {
+		return ""
+	}
+	shown := names
+	if len(shown) > 5 {
+		shown = shown[:5]
+	}
+	more := ""
+	if len(names) > len(shown) {
+		more = fmt.Sprintf(" and %d more", len(names)-len(shown))
+	}
+	verb := "are"
+	if len(names) == 1 {
+		verb = "is"
+	}
+	return fmt.Sprintf("%s in %s %s no scenario of this sweep (left by an earlier sweep file?): %s%s; the comparison leaves them out",
+		output.Counted(len(names), "folder", "folders"), r.opt.Out, verb, strings.Join(shown, ", "), more)
 }
 
 // tmpPrefix starts the name of a scenario folder being written; the id follows (it may hold
