@@ -241,7 +241,7 @@ func startNote(start *routing.Start, links []site.Link, unused []string) []strin
 		in[l.Link] = true
 	}
 	if !slices.ContainsFunc(links, func(l site.Link) bool { return in[l.ID] }) && len(links) > 0 {
-		return []string{fmt.Sprintf("started from the routes of %s, which has a route for none of this plan's links (another plan's or another campus's folder?): every link was placed afresh", start.From)}
+		return []string{fmt.Sprintf("started from the routes of %s, which has a route for none of this plan's links (its links differ from this plan's: another hub, plan or campus?): every link was placed afresh", start.From)}
 	}
 	if len(unused) == 0 {
 		return nil
