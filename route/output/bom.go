@@ -334,13 +334,19 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 	totalAt := sum.Rows() + 2
 	moneyRow("total", ref(totalRow), b.TotalCents)
 	budgetAt := sum.Rows() + 2
-	sum.Append(workbook.Text("budget"), workbook.Cents(s.BudgetCents), workbook.Text(cur))
+	// Without a budget the budget cell is blank (a formula reads it as 0, no budget), not
+	// a budget of 0; typing one in makes the two rows below check it.
+	budgetCell := workbook.Blank()
+	if s.BudgetCents != nil {
+		budgetCell = workbook.Cents(*s.BudgetCents)
+	}
+	sum.Append(workbook.Text("budget"), budgetCell, workbook.Text(cur))
 	tot, bud := workbook.Ref(1, totalAt), workbook.Ref(1, budgetAt)
 	// The budget check as the formulas work it out from the total and the budget cells.
 	overCents, overPct := int64(0), 0.0
-	if s.BudgetCents > 0 {
-		overCents = b.TotalCents - s.BudgetCents
-		overPct = roundHalfAway(100*(money(b.TotalCents)-money(s.BudgetCents))/money(s.BudgetCents), 1)
+	if s.BudgetCents != nil {
+		overCents = b.TotalCents - *s.BudgetCents
+		overPct = roundHalfAway(100*(money(b.TotalCents)-money(*s.BudgetCents))/money(*s.BudgetCents), 1)
 	}
 	moneyRow("over (+) or under (-) budget", fmt.Sprintf("IF(%s>0,%s-%s,0)", bud, tot, bud), overCents)
 	sum.Append(workbook.Text("over (+) or under (-) budget"), workbook.Formula(fmt.Sprintf("IF(%s>0,ROUND(100*(%s-%s)/%s,1),0)", bud, tot, bud, bud), overPct, 1), workbook.Text("%"))

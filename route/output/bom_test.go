@@ -83,7 +83,7 @@ func TestBOMOutputsAddUp(t *testing.T) {
 	}
 	s := Summarize(r)
 	if s.TotalCents != total || s.SubtotalCents != all || s.CostByCategory[media.CategoryLabour] != sub[media.CategoryLabour] ||
-		s.OverBudgetCents != total-s.BudgetCents || len(s.CostDrivers) != 5 {
+		s.BudgetCents == nil || s.OverBudgetCents == nil || *s.OverBudgetCents != total-*s.BudgetCents || len(s.CostDrivers) != 5 {
 		t.Errorf("summary: %+v", s)
 	}
 	var model int64
@@ -387,6 +387,9 @@ for ws in f.worksheets:
 	r := testplan.DemoResult(t)
 	b := r.Estimate.BOM
 	s := Summarize(r)
+	if s.BudgetCents == nil {
+		t.Fatal("the demo plan has no budget; this test checks the budget rows")
+	}
 	for _, opt := range []WriteOptions{{}, {Units: UnitsImperial}} {
 		t.Run("units "+opt.Units, func(t *testing.T) {
 			t.Parallel()
@@ -446,7 +449,7 @@ for ws in f.worksheets:
 				}
 				if rec[0] == "over (+) or under (-) budget" && !overSeen {
 					overSeen = true
-					want[fmt.Sprintf("summary!B%d", i+1)] = s.OverBudgetCents
+					want[fmt.Sprintf("summary!B%d", i+1)] = *s.OverBudgetCents
 				}
 			}
 
@@ -487,8 +490,8 @@ for ws in f.worksheets:
 			for i, rec := range labels {
 				if rec[0] == "over (+) or under (-) budget" && len(rec) > 2 && rec[2] == "%" {
 					v, _ := x.Value("summary", fmt.Sprintf("B%d", i+1))
-					if got, _ := strconv.ParseFloat(v, 64); got != s.OverBudgetPct {
-						t.Errorf("over budget: cached %v %%, want %v", got, s.OverBudgetPct)
+					if got, _ := strconv.ParseFloat(v, 64); got != *s.OverBudgetPct {
+						t.Errorf("over budget: cached %v %%, want %v", got, *s.OverBudgetPct)
 					}
 				}
 			}

@@ -358,8 +358,16 @@ func passageText(l *routing.Leg, tr travel) []string {
 	return []string{l.EntranceFrom, l.EntranceTo, strings.Join(tr.crosses, " "), strings.Join(tr.turns, " ")}
 }
 
+// SummaryFormat is summary.json's first member, "format": which layout of the file this is.
+// Format 2 named the bound lower_bound_cents and the gap gap_pct (in percent), and writes
+// null for budget_cents, over_budget_cents and over_budget_pct when the plan has no budget;
+// the files before it have no format member (lower_bound, gap as a fraction, a budget of 0
+// for none). A resumed sweep plans again a scenario whose summary.json is of another format.
+const SummaryFormat = "spanwright summary 2"
+
 // Summary is the machine-readable digest of a planned scenario (summary.json).
 type Summary struct {
+	Format       string  `json:"format"` // SummaryFormat
 	Scenario     string  `json:"scenario"`
 	Hub          string  `json:"hub"`
 	Buildings    int     `json:"buildings"`
@@ -391,23 +399,26 @@ type Summary struct {
 
 	// TotalCents is the bill of materials' grand total: every line, contingency, overhead
 	// and tax.
-	TotalCents  int64 `json:"total_cents"`
-	BudgetCents int64 `json:"budget_cents"`
-	// OverBudgetCents is total minus budget: positive over, negative under; 0 without a budget.
-	OverBudgetCents int64   `json:"over_budget_cents"`
-	OverBudgetPct   float64 `json:"over_budget_pct"`
+	TotalCents int64 `json:"total_cents"`
+	// BudgetCents is the plan's budget; nil (null) when the plan sets none (budget absent
+	// or 0). OverBudgetCents is total minus budget, positive over and negative under, and
+	// OverBudgetPct the same in percent of the budget (one decimal); both nil without a
+	// budget.
+	BudgetCents     *int64   `json:"budget_cents"`
+	OverBudgetCents *int64   `json:"over_budget_cents"`
+	OverBudgetPct   *float64 `json:"over_budget_pct"`
 	// ModelCents is the legs' costs summed (each leg's bill items priced one by one, its
 	// share of new trench and added duct; no building panels or enclosures, no markups): the
 	// cost model the routes were chosen by (README, "One cost model"), not a price.
 	ModelCents int64 `json:"model_cents"`
 	// ObjectiveCents is what the optimizer minimised for these routes (route.Result
-	// .ObjectiveCents); LowerBound is its proved lower bound over every plan serving the same
-	// legs, and Gap = (ObjectiveCents − LowerBound) / LowerBound: no plan of these legs costs
-	// less than the bound, so a better plan saves at most that share. Both null with the length
-	// objective (no bound is computed).
+	// .ObjectiveCents); LowerBoundCents is its proved lower bound over every plan serving the
+	// same legs, and GapPct = 100 × (ObjectiveCents − LowerBoundCents) / LowerBoundCents, in
+	// percent (BoundGap): no plan of these legs costs less than the bound, so a better plan
+	// saves at most that share. Both null with the length objective (no bound is computed).
 	ObjectiveCents   int64            `json:"objective_cents"`
-	LowerBound       *int64           `json:"lower_bound"`
-	Gap              *float64         `json:"gap"`
+	LowerBoundCents  *int64           `json:"lower_bound_cents"`
+	GapPct           *float64         `json:"gap_pct"`
 	CostByCategory   map[string]int64 `json:"cost_by_category_cents"` // BOM subtotals: material, labour, construction, optics
 	SubtotalCents    int64            `json:"subtotal_cents"`
 	ContingencyCents int64            `json:"contingency_cents"`
@@ -455,10 +466,10 @@ func newWorkM(e *estimate.Estimate) float64 {
 
 // Summarize digests the result.
 func Summarize(r *route.Result) Summary {
-	s := Summary{Scenario: r.Plan.Name, Hub: r.Hub, Buildings: len(r.Site.Campus.Buildings),
+	s := Summary{Format: SummaryFormat, Scenario: r.Plan.Name, Hub: r.Hub, Buildings: len(r.Site.Campus.Buildings),
 		Links: len(r.Links), Legs: len(r.Legs), Warnings: append([]string{}, r.Warnings...), Notes: r.Notes,
 		MediaMix: map[string]int{}, Currency: r.Currency, NewTrenchM: round1(newWorkM(r.Estimate)),
-		BudgetCents: int64(r.Plan.Budget), StartedFrom: r.StartedFrom}
+		StartedFrom: r.StartedFrom}
 	if DemoPrices(r) {
 		s.DemoPrices = DemoPricesWarning
 	}
@@ -490,7 +501,7 @@ func Summarize(r *route.Result) Summary {
 		s.Entrances = len(r.Estimate.Construction.Entrances)
 	}
 	s.ObjectiveCents = r.ObjectiveCents
-	s.LowerBound, s.Gap = BoundGap(r.ObjectiveCents, r.LowerBoundCents)
+	s.LowerBoundCents, s.GapPct = BoundGap(r.ObjectiveCents, r.LowerBoundCents)
 	s.ModelCents += r.ExtraCents
 	s.TotalCents = s.ModelCents
 	s.WarningCounts = map[string]int{"network": len(r.Site.Net.Warnings)}
@@ -531,19 +542,20 @@ func Summarize(r *route.Result) Summary {
 			}
 		}
 	}
-	if s.BudgetCents > 0 {
-		s.OverBudgetCents = s.TotalCents - s.BudgetCents
-		s.OverBudgetPct = round1(100 * float64(s.OverBudgetCents) / float64(s.BudgetCents))
+	if budget := int64(r.Plan.Budget); budget > 0 { // 0 is the plan's "no budget"
+		over := s.TotalCents - budget
+		pct := round1(100 * float64(over) / float64(budget))
+		s.BudgetCents, s.OverBudgetCents, s.OverBudgetPct = &budget, &over, &pct
 	}
 	s.TotalRouteM = round1(s.TotalRouteM)
 	s.WarningCount = len(s.Warnings)
 	return s
 }
 
-// BoundGap returns the lower bound and the gap (objective − bound) / bound, rounded to six
-// decimals, as summary.json writes them: both nil when there is no bound (bound < 0), the gap
-// nil when the bound is 0.
-func BoundGap(objectiveCents, boundCents int64) (bound *int64, gap *float64) {
+// BoundGap returns the lower bound and the gap 100 × (objective − bound) / bound in percent,
+// rounded to four decimals (a fraction to six), as summary.json writes them: both nil when
+// there is no bound (bound < 0), the gap nil when the bound is 0.
+func BoundGap(objectiveCents, boundCents int64) (bound *int64, gapPct *float64) {
 	if boundCents < 0 {
 		return nil, nil
 	}
@@ -551,7 +563,7 @@ func BoundGap(objectiveCents, boundCents int64) (bound *int64, gap *float64) {
 	if b == 0 {
 		return &b, nil
 	}
-	g := math.Round(1e6*float64(objectiveCents-b)/float64(b)) / 1e6
+	g := math.Round(1e6*float64(objectiveCents-b)/float64(b)) / 1e4
 	return &b, &g
 }
 
@@ -564,17 +576,23 @@ func summaryJSON(w io.Writer, r *route.Result) error {
 	return err
 }
 
-// wideGap is the gap above which the terminal says what a wide gap means: the bound's dual
-// ascent is capped on large campuses (route/optimize, lowerbound.go), so there the bound is
-// usually the weak side (the generated 1,000- and 5,000-building campuses give 68 % and 33 %).
-const wideGap = 0.10
+// wideGapPct is the gap, in percent, above which the terminal says what a wide gap means:
+// the bound's dual ascent is capped on large campuses (route/optimize, lowerbound.go), so
+// there the bound is usually the weak side (the generated 1,000- and 5,000-building campuses
+// give 68 % and 33 %).
+const wideGapPct = 10.0
 
-// gapText formats a gap (a fraction) in percent; "—" for none.
-func gapText(g *float64) string {
-	if g == nil {
+// PctText formats a percentage for people, with two decimals and no sign of the unit
+// ("4.42"): the gap to the bound on the terminal (GapText), in report.html and in compare.md.
+func PctText(pct float64) string { return strconv.FormatFloat(pct, 'f', 2, 64) }
+
+// GapText formats a gap in percent (summary.json's gap_pct) with its unit, "4.42 %"; "—"
+// for none (a bound of 0).
+func GapText(gapPct *float64) string {
+	if gapPct == nil {
 		return "—"
 	}
-	return strconv.FormatFloat(100**g, 'f', 2, 64) + " %"
+	return PctText(*gapPct) + " %"
 }
 
 // PrintSummary writes a short human summary of the result: links and legs, media, cable
@@ -643,16 +661,16 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 		fmt.Fprintf(w, "legs through a building: %d; handholes to add where a route turns between pathways: %d (see links.csv)\n",
 			s.CrossingLegs, s.TurnHandholes)
 	}
-	if s.LowerBound != nil {
+	if s.LowerBoundCents != nil {
 		closed := ""
 		switch {
-		case s.Gap != nil && *s.Gap <= 1e-9:
+		case s.GapPct != nil && *s.GapPct <= 1e-7:
 			closed = " (proved optimal)"
-		case s.Gap != nil && *s.Gap > wideGap:
+		case s.GapPct != nil && *s.GapPct > wideGapPct:
 			closed = " (no plan of these legs costs less than the bound; a gap this wide usually means a weak bound rather than poor routes)"
 		}
 		fmt.Fprintf(w, "optimizer: routes %s by the optimizer's objective, proved lower bound %s, gap %s%s\n",
-			media.FormatCents(s.ObjectiveCents), media.FormatCents(*s.LowerBound), gapText(s.Gap), closed)
+			media.FormatCents(s.ObjectiveCents), media.FormatCents(*s.LowerBoundCents), GapText(s.GapPct), closed)
 	}
 	e := r.Estimate
 	if e == nil || e.BOM == nil {
@@ -700,12 +718,12 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 	if note := s.PricedNote(); note != "" {
 		fmt.Fprintf(w, "warning: %s\n", note)
 	}
-	if s.BudgetCents > 0 {
-		word, over := "under", -s.OverBudgetCents
-		if s.OverBudgetCents > 0 {
-			word, over = "over", s.OverBudgetCents
+	if s.BudgetCents != nil {
+		word, over := "under", -*s.OverBudgetCents
+		if *s.OverBudgetCents > 0 {
+			word, over = "over", *s.OverBudgetCents
 		}
-		fmt.Fprintf(w, "budget %s %s: %s by %s (%.1f %%)\n", media.FormatCents(s.BudgetCents), t(b.Currency), word, media.FormatCents(over), math.Abs(s.OverBudgetPct))
+		fmt.Fprintf(w, "budget %s %s: %s by %s (%.1f %%)\n", media.FormatCents(*s.BudgetCents), t(b.Currency), word, media.FormatCents(over), math.Abs(*s.OverBudgetPct))
 	}
 	if s.WarningCount > 0 {
 		fmt.Fprintf(w, "%s (see summary.json)\n", Counted(s.WarningCount, "warning", "warnings"))

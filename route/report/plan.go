@@ -215,7 +215,8 @@ type planView struct {
 	Subtotal   string
 	ModelCost  string
 	// Bound and Gap are the optimizer's proved lower bound on its objective and the gap of the
-	// routes to it (output.Summary.LowerBound, Gap); Bound is "" without a bound.
+	// routes to it in percent (output.Summary.LowerBoundCents, GapPct, as output.GapText
+	// prints it); Bound is "" without a bound.
 	Objective, Bound, Gap string
 	Warnings              []string
 	Buildings             []buildingRow
@@ -381,26 +382,27 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 	}
 	v.Total = money(s.TotalCents)
 	v.PricedNote = s.PricedNote()
-	v.HasBudget = s.BudgetCents > 0
+	v.HasBudget = s.BudgetCents != nil
 	if v.HasBudget {
-		v.Budget = money(s.BudgetCents)
-		over := s.OverBudgetCents
+		budget := *s.BudgetCents
+		v.Budget = money(budget)
+		over := *s.OverBudgetCents
 		v.IsOver = over > 0
 		if over < 0 {
 			over = -over
 		}
 		v.Over = money(over)
-		v.OverPct = strconv.FormatFloat(abs(s.OverBudgetPct), 'f', 1, 64) + " %"
-		top := max(s.TotalCents, s.BudgetCents)
+		v.OverPct = strconv.FormatFloat(abs(*s.OverBudgetPct), 'f', 1, 64) + " %"
+		top := max(s.TotalCents, budget)
 		const full = 560.0
 		v.BudgetBar.TotalW = num(full * float64(s.TotalCents) / float64(top))
-		v.BudgetBar.BudgetX = num(full * float64(s.BudgetCents) / float64(top))
+		v.BudgetBar.BudgetX = num(full * float64(budget) / float64(top))
 		v.BudgetBar.LabelX, v.BudgetBar.Anchor = num(full*float64(s.TotalCents)/float64(top)+6), "start"
 		if float64(s.TotalCents)/float64(top) > 0.7 {
 			v.BudgetBar.LabelX, v.BudgetBar.Anchor = num(full*float64(s.TotalCents)/float64(top)-6), "end"
 		}
 		v.BudgetBar.BudgetAnchor = "middle"
-		if bx := full * float64(s.BudgetCents) / float64(top); bx < 80 {
+		if bx := full * float64(budget) / float64(top); bx < 80 {
 			v.BudgetBar.BudgetAnchor = "start"
 		} else if bx > full-20 {
 			v.BudgetBar.BudgetAnchor = "end"
@@ -459,11 +461,8 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 	}
 	v.Fill, v.FillOver, v.FillOpen, v.FillListed = fillRows(r)
 	v.ModelCost = money(s.ModelCents)
-	if s.LowerBound != nil {
-		v.Objective, v.Bound, v.Gap = money(s.ObjectiveCents), money(*s.LowerBound), "—"
-		if s.Gap != nil {
-			v.Gap = strconv.FormatFloat(100**s.Gap, 'f', 2, 64) + " %"
-		}
+	if s.LowerBoundCents != nil {
+		v.Objective, v.Bound, v.Gap = money(s.ObjectiveCents), money(*s.LowerBoundCents), output.GapText(s.GapPct)
 	}
 	if e := r.Estimate; e != nil && e.BOM != nil {
 		v.HasEst = true

@@ -204,7 +204,11 @@ func sweepRowOf(j *sweep.Judged, keys []string) sweepRow {
 		}
 		row.Cells = append(row.Cells, text(val))
 	}
-	hasBudget := planned && j.BudgetCents > 0
+	hasBudget := planned && j.BudgetCents != nil
+	budget, over := sweepCell{}, sweepCell{}
+	if hasBudget {
+		budget, over = moneyc(*j.BudgetCents, true), moneyc(*j.OverBudgetCents, true)
+	}
 	margin := sweepCell{}
 	if planned && j.WorstMarginDB != nil {
 		margin = sweepCell{Text: dB(*j.WorstMarginDB), Sort: strconv.FormatFloat(*j.WorstMarginDB, 'f', 2, 64)}
@@ -221,8 +225,8 @@ func sweepRowOf(j *sweep.Judged, keys []string) sweepRow {
 			pareto = text("yes")
 		}
 	}
-	row.Cells = append(row.Cells, text(j.Status), moneyc(j.TotalCents, planned), moneyc(j.BudgetCents, hasBudget),
-		moneyc(j.OverBudgetCents, hasBudget), intc(j.InfeasibleLegs, planned), margin, trench,
+	row.Cells = append(row.Cells, text(j.Status), moneyc(j.TotalCents, planned), budget,
+		over, intc(j.InfeasibleLegs, planned), margin, trench,
 		intc(j.DiverseLinks, planned), intc(j.DiverseMissing, planned), text(j.MediaMix),
 		intc(j.Rank, j.Rank > 0), pareto, intc(j.Warnings, planned), text(j.Error))
 	return row

@@ -10,19 +10,21 @@ import (
 
 func margin(x float64) *float64 { return &x }
 
+func ip(c int64) *int64 { return &c }
+
 // sweepRows is a small comparison: three ok scenarios of which two are Pareto-optimal
 // (cheapest; best margin), one ok without fibre, one infeasible, one failed, and ids and
 // values that hold markup.
 func sweepRows() []sweep.Row {
 	return []sweep.Row{
 		{Index: 0, ID: "cheap-1", Set: [][2]string{{"hub", "ADM"}}, Status: sweep.StatusOK, Currency: "USD",
-			TotalCents: 100_000_00, BudgetCents: 150_000_00, OverBudgetCents: -50_000_00, WorstMarginDB: margin(2.0), MediaMix: "os2:4"},
+			TotalCents: 100_000_00, BudgetCents: ip(150_000_00), OverBudgetCents: ip(-50_000_00), WorstMarginDB: margin(2.0), MediaMix: "os2:4"},
 		{Index: 1, ID: "safe-2", Set: [][2]string{{"hub", "LIB"}}, Status: sweep.StatusOK, Currency: "USD",
-			TotalCents: 120_000_00, BudgetCents: 150_000_00, OverBudgetCents: -30_000_00, WorstMarginDB: margin(4.5), MediaMix: "os2:4"},
+			TotalCents: 120_000_00, BudgetCents: ip(150_000_00), OverBudgetCents: ip(-30_000_00), WorstMarginDB: margin(4.5), MediaMix: "os2:4"},
 		{Index: 2, ID: "worse-3", Set: [][2]string{{"hub", "ENG"}}, Status: sweep.StatusOK, Currency: "USD",
-			TotalCents: 130_000_00, BudgetCents: 150_000_00, OverBudgetCents: -20_000_00, WorstMarginDB: margin(3.0), MediaMix: "om4:1 os2:3"},
+			TotalCents: 130_000_00, BudgetCents: ip(150_000_00), OverBudgetCents: ip(-20_000_00), WorstMarginDB: margin(3.0), MediaMix: "om4:1 os2:3"},
 		{Index: 3, ID: "copper-4", Case: "<i>copper</i>", Status: sweep.StatusOK, Currency: "USD",
-			TotalCents: 140_000_00, BudgetCents: 150_000_00, OverBudgetCents: -10_000_00, MediaMix: "cat6a:4"},
+			TotalCents: 140_000_00, BudgetCents: ip(150_000_00), OverBudgetCents: ip(-10_000_00), MediaMix: "cat6a:4"},
 		{Index: 4, ID: "holes-5", Set: [][2]string{{"hub", `"><script>x()</script>`}}, Status: sweep.StatusInfeasible, Currency: "USD",
 			TotalCents: 90_000_00, InfeasibleLegs: 2, WorstMarginDB: margin(1.5)},
 		{Index: 5, ID: "bad-6", Case: "bad", Status: sweep.StatusFailed, Error: "hub: unknown building \"<NOWHERE>\""},

@@ -124,11 +124,20 @@ func money(c int64) string {
 
 // column is one fixed column of the comparison.
 type column struct {
-	csv   string // CSV header, unit in the name
-	human string // XLSX and Markdown header, without the unit
-	unit  string // "" for none; "$currency" for the sweep's currency
-	text  func(j judged) string
+	csv   string                // CSV header, unit in the name
+	human string                // XLSX and Markdown header, without the unit
+	unit  string                // "" for none; "$currency" for the sweep's currency
+	text  func(j judged) string // compare.csv's cell, and compare.md's unless md is set
 	cell  func(j judged) workbook.Cell
+	md    func(j judged) string // compare.md's cell when it differs from text; nil: text
+}
+
+// mdText is the column's cell in compare.md, not yet escaped.
+func (c column) mdText(j judged) string {
+	if c.md != nil {
+		return c.md(j)
+	}
+	return c.text(j)
 }
 
 func planned(j judged) bool { return j.Status != StatusFailed }
@@ -146,7 +155,7 @@ func moneyCol(csvName, human string, get func(*Row) int64, when func(judged) boo
 				return workbook.Blank()
 			}
 			return workbook.Cents(get(j.Row))
-		}}
+		}, nil}
 }
 
 func intCol(csvName, human string, get func(*Row) int) column {
@@ -162,7 +171,7 @@ func intCol(csvName, human string, get func(*Row) int) column {
 				return workbook.Blank()
 			}
 			return workbook.Int(int64(get(j.Row)))
-		}}
+		}, nil}
 }
 
 func textCol(csvName, human string, get func(judged) string) column {
@@ -171,18 +180,18 @@ func textCol(csvName, human string, get func(judged) string) column {
 			return workbook.Text(s)
 		}
 		return workbook.Blank()
-	}}
+	}, nil}
 }
 
-func hasBudget(j judged) bool { return planned(j) && j.BudgetCents > 0 }
+func hasBudget(j judged) bool { return planned(j) && j.BudgetCents != nil }
 
 // fixedColumns are the comparison's columns after the override columns.
 var fixedColumns = []column{
 	textCol("status", "status", func(j judged) string { return j.Status }),
 	textCol("currency", "currency", func(j judged) string { return j.Currency }),
 	moneyCol("total_cost", "total cost", func(r *Row) int64 { return r.TotalCents }, planned),
-	moneyCol("plan_budget", "budget", func(r *Row) int64 { return r.BudgetCents }, hasBudget),
-	moneyCol("over_budget", "over budget", func(r *Row) int64 { return r.OverBudgetCents }, hasBudget),
+	moneyCol("plan_budget", "budget", func(r *Row) int64 { return *r.BudgetCents }, hasBudget),
+	moneyCol("over_budget", "over budget", func(r *Row) int64 { return *r.OverBudgetCents }, hasBudget),
 	intCol("infeasible_legs", "infeasible legs", func(r *Row) int { return r.InfeasibleLegs }),
 	{"worst_margin_db", "worst loss margin", "dB",
 		func(j judged) string {
@@ -196,7 +205,7 @@ var fixedColumns = []column{
 				return workbook.Blank()
 			}
 			return workbook.Number(*j.WorstMarginDB, 2)
-		}},
+		}, nil},
 	{"new_trench_m", "new trench", "m",
 		func(j judged) string {
 			if !planned(j) {
@@ -209,7 +218,7 @@ var fixedColumns = []column{
 				return workbook.Blank()
 			}
 			return workbook.Number(j.NewTrenchM, 1)
-		}},
+		}, nil},
 	intCol("diverse_links", "diverse links", func(r *Row) int { return r.DiverseLinks }),
 	intCol("diverse_missing", "links lacking a diverse route", func(r *Row) int { return r.DiverseMissing }),
 	textCol("media_mix", "media (legs per medium)", func(j judged) string { return j.MediaMix }),
@@ -225,7 +234,7 @@ var fixedColumns = []column{
 				return workbook.Blank()
 			}
 			return workbook.Int(int64(j.rank))
-		}},
+		}, nil},
 	{"pareto", "pareto optimal", "",
 		func(j judged) string {
 			switch {
@@ -241,7 +250,7 @@ var fixedColumns = []column{
 				return workbook.Blank()
 			}
 			return workbook.Bool(j.pareto)
-		}},
+		}, nil},
 	intCol("warnings", "warnings", func(r *Row) int { return r.Warnings }),
 	textCol("error", "error", func(j judged) string { return oneLine(j.Error) }),
 	textCol("note", "note", func(j judged) string { return j.Note }),
@@ -249,18 +258,26 @@ var fixedColumns = []column{
 	// columns before them stay valid.
 	moneyCol("objective", "optimizer objective", func(r *Row) int64 { return r.ObjectiveCents }, planned),
 	moneyCol("lower_bound", "proved lower bound", func(r *Row) int64 { return *r.LowerBoundCents }, bounded),
-	{"gap", "gap to the bound", "",
+	// The gap in percent: compare.csv as summary.json has it (four decimals), the workbook
+	// and compare.md as the terminal and the report show it (output.PctText, two).
+	{"gap_pct", "gap to the bound", "%",
 		func(j judged) string {
-			if !bounded(j) || j.Gap == nil {
+			if !bounded(j) || j.GapPct == nil {
 				return ""
 			}
-			return strconv.FormatFloat(*j.Gap, 'f', 6, 64)
+			return strconv.FormatFloat(*j.GapPct, 'f', 4, 64)
 		},
 		func(j judged) workbook.Cell {
-			if !bounded(j) || j.Gap == nil {
+			if !bounded(j) || j.GapPct == nil {
 				return workbook.Blank()
 			}
-			return workbook.Number(*j.Gap, 6)
+			return workbook.Number(*j.GapPct, 2)
+		},
+		func(j judged) string {
+			if !bounded(j) || j.GapPct == nil {
+				return ""
+			}
+			return output.PctText(*j.GapPct)
 		}},
 }
 
@@ -294,7 +311,9 @@ func currencyOf(rows []Row) string {
 // with two decimals; budget columns empty without a budget), infeasible_legs,
 // worst_margin_db (two decimals, empty without fibre legs), new_trench_m (one decimal),
 // diverse_links, diverse_missing, media_mix ("medium:legs" pairs), cost_rank, pareto
-// (yes/no), warnings and error. compare.xlsx holds the same table, numbers as numbers, with a
+// (yes/no), warnings, error, note, then objective and lower_bound (currency units, empty
+// without a bound) and gap_pct (the gap to the bound in percent, four decimals; empty
+// without a bound). compare.xlsx holds the same table, numbers as numbers, with a
 // second sheet of totals as formulas; compare.md the same as a Markdown table. Text from the
 // sweep (ids, case names, values, errors) is escaped for each file by package escape: no CSV
 // cell begins a formula, no Markdown text forms markup, hidden characters show as "<U+202E>".
@@ -529,7 +548,7 @@ func compareMD(js []judged, keys []string, cur string) []byte {
 			rec = append(rec, escape.Markdown(j.value(k)))
 		}
 		for _, c := range cols {
-			rec = append(rec, escape.Markdown(c.text(j)))
+			rec = append(rec, escape.Markdown(c.mdText(j)))
 		}
 		mdRow(&b, rec)
 	}

@@ -113,8 +113,8 @@ func ip(v int64) *int64 { return &v }
 func TestCompareMarkdown(t *testing.T) {
 	t.Parallel()
 	rows := []Row{
-		{Index: 0, ID: "a-1", Set: [][2]string{{"hub", "A|B"}}, Status: StatusOK, Currency: "EUR", TotalCents: 150, BudgetCents: 100, OverBudgetCents: 50, WorstMarginDB: fp(1.234), MediaMix: "os2:2",
-			ObjectiveCents: 120, LowerBoundCents: ip(100), Gap: fp(0.2)},
+		{Index: 0, ID: "a-1", Set: [][2]string{{"hub", "A|B"}}, Status: StatusOK, Currency: "EUR", TotalCents: 150, BudgetCents: ip(100), OverBudgetCents: ip(50), WorstMarginDB: fp(1.234), MediaMix: "os2:2",
+			ObjectiveCents: 120, LowerBoundCents: ip(100), GapPct: fp(4.4158)},
 		{Index: 1, ID: "b-2", Case: "b", Status: StatusFailed, Error: "b-2/plan.yaml: hub: bad\nsecond line"},
 	}
 	files, err := Compare(rows, []string{"hub"})
@@ -141,9 +141,16 @@ func TestCompareMarkdown(t *testing.T) {
 			t.Errorf("compare.md lacks %q:\n%s", want, md)
 		}
 	}
-	// The optimizer's objective, bound and gap come last (objective, lower_bound, gap).
-	if !strings.Contains(csvText, "0,a-1,,A|B,ok,EUR,1.50,1.00,0.50,0,1.23,0.0,0,0,os2:2,1,yes,0,,,1.20,1.00,0.200000\n") {
+	// The optimizer's objective, bound and gap come last (objective, lower_bound, gap_pct):
+	// the gap in percent, as summary.json has it in compare.csv (four decimals) and as the
+	// terminal prints it in compare.md (output.PctText).
+	if !strings.Contains(csvText, ",objective,lower_bound,gap_pct\n") ||
+		!strings.Contains(csvText, "0,a-1,,A|B,ok,EUR,1.50,1.00,0.50,0,1.23,0.0,0,0,os2:2,1,yes,0,,,1.20,1.00,4.4158\n") {
 		t.Errorf("compare.csv:\n%s", csvText)
+	}
+	if !strings.Contains(md, "| optimizer objective (EUR) | proved lower bound (EUR) | gap to the bound (%) |") ||
+		!strings.Contains(md, "| 1.20 | 1.00 | 4.42 |") {
+		t.Errorf("compare.md: objective, bound and gap:\n%s", md)
 	}
 }
 

@@ -64,15 +64,18 @@
 //	rows.jsonl           one JSON object per scenario (a header line first), in index order
 //	compare.csv, compare.xlsx, compare.md   the comparison, see Compare
 //
-// rows.jsonl starts with a header line, {"format":"spanwright sweep rows 1","sweep":…,
+// rows.jsonl starts with a header line, {"format":"spanwright sweep rows 2","sweep":…,
 // "scenarios":N,"keys":[…]}, where sweep is the SHA-256 of the base plan's hash and the
 // scenario ids (so shards of another sweep, or of another version of the base plan, are not
-// merged) and keys are the override keys; then one Row per line in index order.
+// merged) and keys are the override keys; then one Row per line in index order. A rows file
+// of another format (RowsFormat) is refused with its format named.
 //
 // Scenario folders appear whole or not at all (written under .tmp-<id>.* and renamed). With
-// Options.Resume a scenario whose folder holds summary.json and an inputs.sha256 equal to the
-// one it would write now is not planned again (plan.yaml names the output units when they are
-// not metric, so a change of units plans again). A sharded run (Options.Shard, i of n) plans
+// Options.Resume a scenario whose folder holds summary.json of output.SummaryFormat and an
+// inputs.sha256 equal to the one it would write now is not planned again (plan.yaml names the
+// output units when they are not metric, so a change of units plans again); one whose
+// summary.json is of another format (an earlier spanwright's) is planned again, and a note
+// of Report.Notes names it. A sharded run (Options.Shard, i of n) plans
 // the scenarios whose index modulo n is i-1 and writes rows-i-of-n.jsonl instead of rows.jsonl
 // and the comparison; Merge joins the rows files of every shard into the comparison, byte for
 // byte what the unsharded sweep writes. Shards may share one output folder or use one each.

@@ -36,8 +36,8 @@ type Row struct {
 
 	Currency        string   `json:"currency,omitempty"`
 	TotalCents      int64    `json:"total_cents"`
-	BudgetCents     int64    `json:"budget_cents"`      // 0: no budget
-	OverBudgetCents int64    `json:"over_budget_cents"` // total minus budget; 0 without a budget
+	BudgetCents     *int64   `json:"budget_cents"`      // nil (null): the plan sets no budget
+	OverBudgetCents *int64   `json:"over_budget_cents"` // total minus budget; nil without a budget
 	InfeasibleLegs  int      `json:"infeasible_legs"`
 	WorstMarginDB   *float64 `json:"worst_margin_db"` // smallest loss margin, dB; nil without fibre legs
 	NewTrenchM      float64  `json:"new_trench_m"`    // metres of new trench opened
@@ -54,12 +54,12 @@ type Row struct {
 	// DemoPrices is set when the invented demo price book built into spanwright priced the
 	// scenario (output.Summary.DemoPrices).
 	DemoPrices bool `json:"demo_prices,omitempty"`
-	// ObjectiveCents, LowerBoundCents and Gap are the optimizer's objective, its proved lower
-	// bound and their gap (output.Summary.ObjectiveCents, LowerBound, Gap); the bound and gap
-	// are nil with the length objective, and in rows files written before they existed.
+	// ObjectiveCents, LowerBoundCents and GapPct are the optimizer's objective, its proved
+	// lower bound and their gap in percent (output.Summary.ObjectiveCents, LowerBoundCents,
+	// GapPct); the bound and gap are nil (null) with the length objective.
 	ObjectiveCents  int64    `json:"objective_cents"`
-	LowerBoundCents *int64   `json:"lower_bound_cents,omitempty"`
-	Gap             *float64 `json:"gap,omitempty"`
+	LowerBoundCents *int64   `json:"lower_bound_cents"`
+	GapPct          *float64 `json:"gap_pct"`
 }
 
 func newRow(sc Scenario) Row {
@@ -87,7 +87,7 @@ func (r *Row) fill(s output.Summary) {
 	r.Warnings = s.WarningCount
 	r.Note = strings.Join(s.Notes, "; ")
 	r.DemoPrices = s.DemoPrices != ""
-	r.ObjectiveCents, r.LowerBoundCents, r.Gap = s.ObjectiveCents, s.LowerBound, s.Gap
+	r.ObjectiveCents, r.LowerBoundCents, r.GapPct = s.ObjectiveCents, s.LowerBoundCents, s.GapPct
 	r.Status = StatusOK
 	if s.Infeasible > 0 {
 		r.Status = StatusInfeasible
@@ -109,8 +109,15 @@ func (r *Row) value(key string) string {
 	return ""
 }
 
-// RowsFormat is the first field of a rows file's header line.
-const RowsFormat = "spanwright sweep rows 1"
+// RowsFormat is the first field of a rows file's header line. Format 2 (with
+// output.SummaryFormat 2) names the gap gap_pct, in percent (format 1: gap, a fraction), and
+// writes null for budget_cents and over_budget_cents without a budget (format 1: 0) and for
+// lower_bound_cents and gap_pct without a bound (format 1 left them out). A rows file of
+// another format is refused (rowsFormatPrefix), never read as this one.
+const RowsFormat = "spanwright sweep rows 2"
+
+// rowsFormatPrefix begins the format of every rows file spanwright has written.
+const rowsFormatPrefix = "spanwright sweep rows "
 
 // RowsFile is the rows file of an unsharded sweep or of a merge.
 const RowsFile = "rows.jsonl"
@@ -181,6 +188,13 @@ func decodeRows(path string, r io.Reader) (rowsHeader, []Row, error) {
 		dec.DisallowUnknownFields()
 		if line == 1 {
 			if err := dec.Decode(&h); err != nil || h.Format != RowsFormat {
+				var other struct {
+					Format string `json:"format"`
+				}
+				if json.Unmarshal(sc.Bytes(), &other) == nil && strings.HasPrefix(other.Format, rowsFormatPrefix) {
+					return h, nil, fmt.Errorf("%s:1: sweep rows of format %q, written by another version of spanwright; this one reads %q: run that sweep (or shard) again with this version (--resume plans again the scenarios the other version planned)",
+						path, other.Format, RowsFormat)
+				}
 				return h, nil, fmt.Errorf("%s:1: not a sweep rows file (want a header with format %q)", path, RowsFormat)
 			}
 			continue

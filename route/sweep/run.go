@@ -11,6 +11,7 @@ import (
 	"os"
 	"path/filepath"
 	"runtime"
+	"slices"
 	"strconv"
 	"strings"
 	"sync"
@@ -220,6 +221,9 @@ func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
 	}
 	rows, err := r.runAll(ctx, mine)
 	r.emptyTrash()
+	if n := r.formatNote(); n != "" {
+		r.notes = append(r.notes, n)
+	}
 	if n := r.foreign(f.Scenarios()); n != "" {
 		r.notes = append(r.notes, n)
 	}
@@ -308,6 +312,10 @@ type runner struct {
 	mu      sync.Mutex
 	skipped int
 	notes   []string // what the run did that the user may not expect (Report.Notes)
+	// otherFormat holds, by index, the scenarios Resume would have kept but planned again
+	// because their summary.json is not of output.SummaryFormat (resumable), each with the
+	// format it has ("" for none); formatNote names them.
+	otherFormat map[int]otherSummary
 	// trash lists replaced scenario folders, moved aside under temporary names and removed
 	// once the scenarios are done: deleting while writing slows inode allocation on some file
 	// systems (journal-less ext4 scans past recently deleted inodes), and a stopped sweep's
@@ -591,7 +599,7 @@ func (r *runner) scenario(ctx context.Context, sc Scenario, resume bool) (outcom
 	}
 	// A database has no file to hash: a scenario that reads one is planned again.
 	if resume && p.CampusDatabase == "" {
-		if s, ok := r.resumable(dir, inputs); ok {
+		if s, ok := r.resumable(sc, dir, inputs); ok {
 			out.row.fill(s)
 			out.row.Report = htmlIn(dir)
 			out.skipped = true
@@ -761,18 +769,39 @@ func sumLine(hash, name string) string {
 }
 
 // resumable reports whether the scenario folder holds a finished plan of the same inputs, and
-// its summary: its inputs.sha256 equal to inputs, and every file this run would write there
-// (output.Names for its write options and its bill, and a report when Options.Extra is set),
-// so that a file removed by hand, or a
-// run with --full after one without, plans the scenario again.
-func (r *runner) resumable(dir string, inputs []byte) (output.Summary, bool) {
+// its summary: its inputs.sha256 equal to inputs, its summary.json of output.SummaryFormat,
+// and every file this run would write there (output.Names for its write options and its
+// bill, and a report when Options.Extra is set), so that a file removed by hand, or a run
+// with --full after one without, plans the scenario again. A summary.json of another format
+// (an earlier spanwright's, whose gap was a fraction and whose budget_cents was 0 for no
+// budget) is never read as this one: the scenario is planned again, its folder rewritten in
+// this version's formats, and formatNote says so.
+func (r *runner) resumable(sc Scenario, dir string, inputs []byte) (output.Summary, bool) {
 	var s output.Summary
 	old, err := os.ReadFile(filepath.Join(dir, InputsFile))
 	if err != nil || !bytes.Equal(old, inputs) {
 		return s, false
 	}
 	data, err := os.ReadFile(filepath.Join(dir, SummaryFile))
-	if err != nil || json.Unmarshal(data, &s) != nil {
+	if err != nil {
+		return s, false
+	}
+	var head struct {
+		Format string `json:"format"`
+	}
+	if json.Unmarshal(data, &head) != nil {
+		return s, false
+	}
+	if head.Format != output.SummaryFormat {
+		r.mu.Lock()
+		if r.otherFormat == nil {
+			r.otherFormat = map[int]otherSummary{}
+		}
+		r.otherFormat[sc.Index] = otherSummary{id: sc.ID, format: head.Format}
+		r.mu.Unlock()
+		return s, false
+	}
+	if json.Unmarshal(data, &s) != nil {
 		return s, false
 	}
 	for _, name := range append(output.Names(r.opt.Write, s.HasBill()), PlanFile, OutputsFile) {
@@ -784,6 +813,48 @@ func (r *runner) resumable(dir string, inputs []byte) (output.Summary, bool) {
 		return s, false
 	}
 	return s, true
+}
+
+// otherSummary is a scenario whose summary.json is not of output.SummaryFormat.
+type otherSummary struct {
+	id     string
+	format string // the format it has; "" when it has none (written before summary.json had one)
+}
+
+// formatNote says which scenarios of this run --resume planned again because their
+// summary.json is of another format than this version's (resumable); "" when none. The
+// scenarios are named in index order, the first five of them.
+func (r *runner) formatNote() string {
+	r.mu.Lock()
+	defer r.mu.Unlock()
+	var idx []int
+	for i := range r.otherFormat {
+		if r.opt.Shard.Has(i) { // a base of another shard is planned here but not written
+			idx = append(idx, i)
+		}
+	}
+	if len(idx) == 0 {
+		return ""
+	}
+	slices.Sort(idx)
+	var ids []string
+	for _, i := range idx[:min(len(idx), 5)] {
+		ids = append(ids, r.otherFormat[i].id)
+	}
+	more := ""
+	if len(idx) > len(ids) {
+		more = fmt.Sprintf(" and %d more", len(idx)-len(ids))
+	}
+	their, has, is := "its summary.json", "has", "is"
+	if len(idx) > 1 {
+		their, has, is = "their summary.json files", "have", "are"
+	}
+	what := fmt.Sprintf("%s no format member (written by an earlier spanwright", has)
+	if f := r.otherFormat[idx[0]].format; f != "" {
+		what = fmt.Sprintf("%s of format %q (written by another version", is, f)
+	}
+	return fmt.Sprintf("%s planned again, not kept: %s %s; this one writes %q): %s%s",
+		output.Counted(len(idx), "scenario", "scenarios"), their, what, output.SummaryFormat, strings.Join(ids, ", "), more)
 }
 
 // htmlIn names the first HTML file (by name) in a scenario folder, "" when there is none.
