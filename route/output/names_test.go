@@ -2,13 +2,17 @@ package output
 
 import (
 	"bytes"
+	"context"
 	"encoding/json"
+	"fmt"
 	"math"
+	"strconv"
 	"strings"
 	"testing"
 
 	"spanwright/route/internal/testplan"
 	"spanwright/route/plan"
+	"spanwright/route/workbook"
 )
 
 // TestSummaryNames pins the names of summary.json's budget and bound members, each carrying
@@ -144,5 +148,78 @@ func TestSummaryNulls(t *testing.T) {
 				t.Errorf("terminal optimizer line: %v, want %v:\n%s", got, !tc.noBound, term.String())
 			}
 		})
+	}
+}
+
+// TestBOMWorkbookNoBudget: without a budget, bom.xlsx's budget cell is blank (not a budget
+// of 0) and both over-budget rows are 0, cached and recalculated; a budget typed into the
+// cell makes them check it (total minus budget, and in percent of the budget, one decimal).
+func TestBOMWorkbookNoBudget(t *testing.T) {
+	t.Parallel()
+	r, err := testplan.PullSolve(t, 100, 1, func(p *plan.Plan) { p.Budget = 0 })
+	if err != nil {
+		t.Fatal(err)
+	}
+	files, err := Files(context.Background(), r, WriteOptions{SkipGeoPackage: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	x, err := workbook.Open(testplan.FileOf(t, files, "bom.xlsx"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer x.Close()
+	rows, err := x.Rows("summary")
+	if err != nil {
+		t.Fatal(err)
+	}
+	budget, over := -1, -1
+	for i, rec := range rows {
+		switch {
+		case len(rec) > 0 && rec[0] == "budget":
+			budget = i + 1
+		case len(rec) > 0 && rec[0] == "over (+) or under (-) budget" && over < 0:
+			over = i + 1
+		}
+	}
+	if budget < 0 || over != budget+1 {
+		t.Fatalf("summary sheet: budget row %d, over-budget rows from %d: %q", budget, over, rows)
+	}
+	if v, _ := x.Value("summary", fmt.Sprintf("B%d", budget)); v != "" {
+		t.Errorf("budget cell without a budget: %q, want blank", v)
+	}
+	for _, ref := range []string{fmt.Sprintf("B%d", over), fmt.Sprintf("B%d", over+1)} {
+		cached, _ := x.Value("summary", ref)
+		calc, err := x.Calc("summary", ref)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if c, _ := strconv.ParseFloat(cached, 64); c != 0 || calc != "0" {
+			t.Errorf("%s without a budget: cached %q, calculated %q; want 0", ref, cached, calc)
+		}
+	}
+	total := r.Estimate.BOM.TotalCents
+	budgetCents := total / 2
+	if err := x.SetNumber("summary", fmt.Sprintf("B%d", budget), float64(budgetCents)/100); err != nil {
+		t.Fatal(err)
+	}
+	calc := func(ref string) float64 {
+		t.Helper()
+		v, err := x.Calc("summary", ref)
+		if err != nil {
+			t.Fatal(err)
+		}
+		f, err := strconv.ParseFloat(v, 64)
+		if err != nil {
+			t.Fatalf("%s: %q is not a number", ref, v)
+		}
+		return f
+	}
+	if got := int64(math.Round(100 * calc(fmt.Sprintf("B%d", over)))); got != total-budgetCents {
+		t.Errorf("over budget with a budget typed in: %d cents, want %d", got, total-budgetCents)
+	}
+	wantPct := math.Round(1000*float64(total-budgetCents)/float64(budgetCents)) / 10
+	if got := calc(fmt.Sprintf("B%d", over+1)); math.Abs(got-wantPct) > 1e-9 {
+		t.Errorf("over budget with a budget typed in: %v %%, want %v", got, wantPct)
 	}
 }
