@@ -178,6 +178,8 @@ func TestPlanContent(t *testing.T) {
 		"<h2>Summary</h2>", "<h2>Map</h2>", "<h2>Links</h2>", "<h2>Pull sections</h2>", "<h2>Duct fill</h2>",
 		"<h2>Warnings</h2>", "<h2>Safety</h2>", "<h2>Sources of the standard values</h2>",
 		"Cost by category", money(s.TotalCents) + " USD", "budget " + money(*s.BudgetCents),
+		// The gap to the bound as the terminal prints it (output.GapText, in percent).
+		", gap " + output.GapText(s.GapPct) + " <span",
 		"14,062.8 m", // total route of the demo, as summary.json has it
 		// The safety cautions of the README.
 		"one-call service", "invisible", "NFPA 70 Articles 800/805", "ground potential rise", "confined spaces",
