@@ -1,6 +1,10 @@
 package optimize
 
-import "testing"
+import (
+	"reflect"
+	"runtime"
+	"testing"
+)
 
 // TestPlanTreesStayExact: a plan tree brought up to date in place (freeUp) as trenches open
 // is the shortest-path tree of its weights, as a tree built afresh with the same free edges:
@@ -80,6 +84,53 @@ func TestPlanTreesStayExact(t *testing.T) {
 		}
 		if !lowered {
 			t.Errorf("seed %d: holding %d edges phantom lowered no distance; the test checks nothing", seed, len(held))
+		}
+	}
+}
+
+// TestAscentBesideStart: the lower bound's ascent, run beside the first start as Solve runs it
+// (ascendAsync), gives the same dual as run alone before anything else, field for field, from
+// a cold and from a warm start, with and without transit-free buildings and charges; under
+// `go test -race` it also shows that the two goroutines share nothing they write. And a solve
+// on one core equals a solve on all. (The ascent is a function of the problem alone:
+// Balakrishnan, Magnanti & Wong, Operations Research 37(5), 1989.)
+func TestAscentBesideStart(t *testing.T) {
+	plain := campus(campusSpec{buildings: 120, seed: 5, diverseFrac: 0.2, options: 3, capacity: true, proposedPct: 25})
+	charged := withTransitCharges(campus(campusSpec{buildings: 300, seed: 6, diverseFrac: 0.1, options: 3, capacity: true, proposedPct: 15}), 4)
+	for _, p := range []*Problem{plain, charged} {
+		alone := newSolver(p, Settings{}).ascend()
+		if alone == nil || len(alone.wanted) == 0 {
+			t.Fatalf("%d demands: the ascent priced no span; the test checks nothing", len(p.Demands))
+		}
+		want, err := Solve(p, Settings{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, warm := range []bool{false, true} {
+			opt := Settings{}
+			if warm {
+				opt.Start = StartFrom(want)
+			}
+			sv := newSolver(p, opt)
+			wait := sv.ascendAsync()
+			if warm {
+				sv.startWarm()
+			} else {
+				sv.start(false)
+			}
+			if beside := wait(); !reflect.DeepEqual(alone, beside) {
+				t.Errorf("%d demands, warm %v: the ascent beside the start differs from the ascent alone", len(p.Demands), warm)
+			}
+		}
+		// GOMAXPROCS is global: this test does not run in parallel with others.
+		prev := runtime.GOMAXPROCS(1)
+		got, err := Solve(p, Settings{})
+		runtime.GOMAXPROCS(prev)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !reflect.DeepEqual(got, want) {
+			t.Errorf("%d demands: the solve with GOMAXPROCS 1 differs from the solve with %d", len(p.Demands), prev)
 		}
 	}
 }

@@ -39,6 +39,8 @@
 // algorithms are used where their cost does not matter (connectivity diagnosis, through a
 // View) and as independent references in the tests.
 //
-// All decisions are deterministic: fixed orders, no map iteration, no goroutines, so the same
-// Problem gives the same Solution on any machine and any GOMAXPROCS.
+// All decisions are deterministic: fixed orders, no map iteration, and one goroutine beside
+// the solve, the lower bound's ascent, which reads only what is fixed before it starts and
+// whose result is taken at a fixed point (after the first start), so the same Problem gives
+// the same Solution on any machine and any GOMAXPROCS.
 package optimize

@@ -135,12 +135,55 @@ func (sv *solver) freeLevel(d int) int64 {
 
 // ascend computes the dual bound of the problem (nil for the length objective).
 func (sv *solver) ascend() *dualBound {
+	return sv.ascendAsync()()
+}
+
+// ascendAsync starts the ascent beside the caller and returns what waits for its result
+// (nil for the length objective). What the ascent reads of the solver is fixed once
+// newSolver returns (the problem, the network, the cost profiles, the marks of invalid
+// demands), or set up here before it starts (legCost's table, the free levels from the
+// plain trees, which share the solver's search scratch), and it writes only its own
+// dualBound and scratch: its result is the same whenever the other goroutine runs and
+// whatever GOMAXPROCS is, and the solver may route demands meanwhile. It gives up when the
+// solve's context is done (abandon, set by the waiter or by stopped); the waiter then
+// returns nil, and the solve has stopped anyway.
+func (sv *solver) ascendAsync() func() *dualBound {
 	if sv.length {
-		return nil
+		return func() *dualBound { return nil }
 	}
+	sv.initLegCosts()
+	nd := len(sv.p.Demands)
+	free := make([]int64, nd)
+	for d := range free {
+		if sv.invalid[d] == "" {
+			free[d] = sv.freeLevel(d)
+		}
+	}
+	out := make(chan *dualBound, 1)
+	sv.abandon.Store(false)
+	go func() { out <- sv.ascendFrom(free) }()
+	return func() *dualBound {
+		if sv.stopped() {
+			sv.abandon.Store(true)
+			return nil
+		}
+		select {
+		case db := <-out:
+			return db
+		case <-sv.ctx.Done():
+			sv.abandon.Store(true)
+			sv.halted = true
+			return nil
+		}
+	}
+}
+
+// ascendFrom is the ascent from the demands' free levels (-1: no route; 0 for an invalid
+// demand, whose level stays -1). It runs beside the solver (ascendAsync): it must not write
+// the solver or call its searches.
+func (sv *solver) ascendFrom(free []int64) *dualBound {
 	p := sv.p
 	ne, nd := len(p.Edges), len(p.Demands)
-	sv.initLegCosts()
 	db := &dualBound{level: make([]int64, nd), budget: make([]int64, ne), uses: make([][]dualUse, nd), onPath: make([][]int32, nd), wantBy: map[int32][]int32{}}
 	copy(db.budget, sv.fixedE)
 	if sv.chOn {
@@ -166,11 +209,9 @@ func (sv *solver) ascend() *dualBound {
 		}
 	}
 	db.rem = slices.Clone(db.budget)
-	free := make([]int64, nd)
 	for d := range db.level {
 		db.level[d] = -1
 		if sv.invalid[d] == "" {
-			free[d] = sv.freeLevel(d)
 			db.level[d] = free[d]
 		}
 	}
@@ -184,7 +225,7 @@ func (sv *solver) ascend() *dualBound {
 	var raisedBuf []dualUse
 	for pass := 1; pass <= dualPasses; pass++ {
 		for d := 0; d < nd; d++ {
-			if free[d] < 0 || sv.stopped() {
+			if free[d] < 0 || sv.abandon.Load() {
 				continue
 			}
 			if db.work > work {

@@ -974,13 +974,15 @@ func (sv *solver) place(d int) {
 }
 
 func (sv *solver) run() {
-	sv.dual = sv.ascend()
+	// The lower bound is computed beside the first start, which does not use it.
+	bound := sv.ascendAsync()
 	warm := len(sv.warm) > 0
 	if warm {
 		sv.startWarm()
 	} else {
 		sv.start(false)
 	}
+	sv.dual = bound()
 	if !sv.gapClosed() {
 		sv.rounds = sv.improve()
 	}

@@ -4,6 +4,7 @@ import (
 	"context"
 	"math"
 	"slices"
+	"sync/atomic"
 )
 
 // Solve routes every demand of p and chooses its medium, minimising the plan cost (or, with
@@ -82,6 +83,7 @@ type profile struct {
 type solver struct {
 	ctx       context.Context // SolveContext's; see stopped
 	halted    bool            // ctx was found done
+	abandon   atomic.Bool     // tells the ascent running beside the solve to give up (ascendAsync)
 	p         *Problem
 	net       *Network
 	length    bool

@@ -17,6 +17,7 @@ const labelCheckEvery = 1024
 func (sv *solver) stopped() bool {
 	if !sv.halted && sv.ctx.Err() != nil {
 		sv.halted = true
+		sv.abandon.Store(true) // the ascent beside the solve (ascendAsync) gives up too
 	}
 	return sv.halted
 }
