@@ -240,3 +240,39 @@ func TestSaveBoundOwnTrench(t *testing.T) {
 		t.Errorf("estimate %d (want 50,000), saveBound %d: want the bound at least the estimate", g, b)
 	}
 }
+
+// TestSaveBoundSharedCharge: a charge on a forced edge that another demand pays as well is not
+// the demand's own: the plan pays it whatever this demand does, so it is no saving and the
+// bound must not take it off what staying costs. Hand-built: two buildings (0 and 5) each
+// reach the junction 1 by their only lateral, both laterals in one handhole charge (100,000);
+// from 1 the hub 2 is 1,000 m away by an existing duct or 100 m by a new span (150,000), which
+// neither demand opens alone. Opening it saves demand L 900 m of cable: 90,000.
+func TestSaveBoundSharedCharge(t *testing.T) {
+	p := &Problem{Nodes: 6, AllowNew: true, Edges: []Edge{
+		{ID: "lat-L", From: 0, To: 1, LengthM: 10},
+		{ID: "lat-M", From: 5, To: 1, LengthM: 10},
+		{ID: "long", From: 1, To: 2, LengthM: 1000},
+		{ID: "new", From: 1, To: 2, LengthM: 100, Proposed: true, FixedCents: 150_000},
+	}, Charges: []Charge{{ID: "handhole", Edges: []int{0, 1}, Cents: 100_000}},
+		Demands: []Demand{
+			{ID: "L", Source: 0, Target: 2, Options: []Option{{Name: "A", CablePerMCents: 100}}},
+			{ID: "M", Source: 5, Target: 2, Options: []Option{{Name: "A", CablePerMCents: 100}}},
+		}}
+	sv := newSolver(p, Settings{})
+	sv.start(false)
+	sv.flush()
+	if sv.st.count[3] != 0 || sv.st.count[2] != 2 {
+		t.Fatalf("start: the new span carries %d cables and the long duct %d; want 0 and 2", sv.st.count[3], sv.st.count[2])
+	}
+	if got := sv.forcedFrom(0); len(got) != 1 || got[0] != 0 {
+		t.Fatalf("forced edges of L %v, want its lateral [0]", got)
+	}
+	sv.sbVer++
+	b := sv.saveBound(0, []int32{3})
+	sv.setPhantom(3, true)
+	g := sv.estimate(0)
+	sv.setPhantom(3, false)
+	if g != 90_000 || g > b {
+		t.Errorf("estimate %d (want 90,000), saveBound %d: want the bound at least the estimate", g, b)
+	}
+}
