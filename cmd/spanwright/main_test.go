@@ -145,6 +145,7 @@ func TestBadInput(t *testing.T) {
 		{"unknown link buildings, all reported", []string{"plan", "testdata/plans/unknown_link.yaml", "--out", "x"}, exitInvalid,
 			[]string{`unknown_link.yaml:5:10: links[1].to: unknown building "GHOST"`, `unknown_link.yaml:6:12: links[2].from: unknown building "PHANTOM"`}},
 		{"check names unreachable", []string{"check", "testdata/plans/island.yaml"}, exitInfeasible, []string{"cannot reach the hub HQ: [ISLE]",
+			"network     in 2 separate pieces that each hold buildings; 1 building is off the hub's piece: [ISLE]\n",
 			"cut off: building ISLE is cut off from HQ: the pathways that reach it (D2) join none that reaches HQ"}},
 	}
 	for _, tc := range cases {

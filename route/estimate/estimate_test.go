@@ -72,7 +72,7 @@ func TestPullTensionByHand(t *testing.T) {
 	}
 	for n, wt := range wants {
 		g := got[n]
-		if g.From != wt.from || g.To != wt.to || g.FeedAt != wt.feed {
+		if g.From.String() != wt.from || g.To.String() != wt.to || g.FeedAt.String() != wt.feed {
 			t.Errorf("section %d: got %s → %s fed at %s, want %s → %s fed at %s", n+1, g.From, g.To, g.FeedAt, wt.from, wt.to, wt.feed)
 		}
 		if math.Abs(g.LengthM-wt.lengthM) > 1e-6 || math.Abs(g.BendDeg-wt.bend) > 0.01 {
@@ -114,10 +114,10 @@ func TestPullPointAdded(t *testing.T) {
 			t.Errorf("pull %s → %s: %.1f m, within %v (%s)", p.From, p.To, p.LengthM, p.WithinRating, p.Reason)
 		}
 		if p.AddedFrom {
-			places[p.From] = true
+			places[p.From.String()] = true
 		}
 		if p.AddedTo {
-			places[p.To] = true
+			places[p.To.String()] = true
 		}
 	}
 	if len(places) != r.Estimate.AddedPullPoints {

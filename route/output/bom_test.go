@@ -10,6 +10,7 @@ import (
 	"path/filepath"
 	"slices"
 	"spanwright/media"
+	"spanwright/route/estimate"
 	"spanwright/route/internal/testplan"
 	"spanwright/route/plan"
 	"spanwright/route/workbook"
@@ -493,5 +494,63 @@ for ws in f.worksheets:
 				}
 			}
 		})
+	}
+}
+
+// TestAddedPullPointInUnits: a pull point the plan adds on a span keeps its place as a number
+// (estimate.PullPoint.AtM) and is written in the run's units where it reaches a person: the
+// pull sections sheet of an imperial run gives its offset in feet (1 ft = 0.3048 m exactly,
+// NIST SP 811 B.8), a metric run in metres.
+func TestAddedPullPointInUnits(t *testing.T) {
+	t.Parallel()
+	r, err := testplan.PullSolve(t, 100, 2, func(p *plan.Plan) { p.Design.PullMaxM = 100 })
+	if err != nil {
+		t.Fatal(err)
+	}
+	var at estimate.PullPoint
+	for _, p := range r.Estimate.Pulls {
+		if p.AddedTo && p.To.Span != "" {
+			at = p.To
+			break
+		}
+	}
+	if at.Span == "" {
+		t.Fatal("no pull point added on a span")
+	}
+	ft := strconv.FormatFloat(at.AtM/0.3048, 'f', 1, 64)
+	m := strconv.FormatFloat(at.AtM, 'f', 1, 64)
+	for _, tc := range []struct {
+		name string
+		opt  WriteOptions
+		want string
+	}{
+		{"imperial", WriteOptions{Units: UnitsImperial}, "new handhole on " + at.Span + " at " + ft + " ft"},
+		{"metric", WriteOptions{}, "new handhole on " + at.Span + " at " + m + " m"},
+	} {
+		if got := PointText(tc.opt, at); got != tc.want {
+			t.Errorf("%s: got %q, want %q", tc.name, got, tc.want)
+		}
+		files, err := Files(context.Background(), r, WriteOptions{Units: tc.opt.Units, SkipGeoPackage: true})
+		if err != nil {
+			t.Fatal(err)
+		}
+		x, err := workbook.Open(testplan.FileOf(t, files, "bom.xlsx"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		found, metres := false, false
+		for row := 2; ; row++ {
+			from, _ := x.Value("pull sections", "D"+strconv.Itoa(row))
+			to, _ := x.Value("pull sections", "E"+strconv.Itoa(row))
+			if from == "" && to == "" {
+				break
+			}
+			found = found || to == tc.want || from == tc.want
+			metres = metres || tc.opt.Units == UnitsImperial && (strings.HasSuffix(from, " m") || strings.HasSuffix(to, " m"))
+		}
+		x.Close()
+		if !found || metres {
+			t.Errorf("%s: pull sections sheet: %q found %v, a point in metres %v", tc.name, tc.want, found, metres)
+		}
 	}
 }

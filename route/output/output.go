@@ -582,10 +582,10 @@ func gapText(g *float64) string {
 // lengths and forces in the units of opt.
 func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 	s := Summarize(r)
-	unit, force := "m", "N"
-	length := func(m float64) string { return ftOrM(opt, m, 1) + " " + unit }
+	force := "N"
+	length := func(m float64) string { return LengthText(opt, m) }
 	if opt.imperial() {
-		unit, force = "ft", "lbf"
+		force = "lbf"
 	}
 	t := escape.Terminal // ids and names from the input, each within a line
 	fmt.Fprintf(w, "plan %q: hub %s, %s, %s, %s of route\n", s.Scenario, t(s.Hub), Counted(s.Links, "link", "links"), Counted(s.Legs, "leg", "legs"), length(s.TotalRouteM))
@@ -688,7 +688,7 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 			tn, rated = install.NToLbf(tn), install.NToLbf(rated)
 		}
 		fmt.Fprintf(w, "pulling: %s, %d over rating; highest %.1f %s of %.1f %s rated (%s %s, from %s to %s)\n",
-			Counted(s.PullSections, "pull section", "pull sections"), s.PullsOverRating, tn, force, rated, force, t(r.Legs[hi.Leg].Link.ID), t(r.Legs[hi.Leg].Name), t(hi.From), t(hi.To))
+			Counted(s.PullSections, "pull section", "pull sections"), s.PullsOverRating, tn, force, rated, force, t(r.Legs[hi.Leg].Link.ID), t(r.Legs[hi.Leg].Name), t(PointText(opt, hi.From)), t(PointText(opt, hi.To)))
 	}
 	b := e.BOM
 	var cats []string
@@ -738,6 +738,21 @@ func DemoPrices(r *route.Result) bool {
 	return r.Engine != nil && r.Engine.PriceBook().File == media.DefaultPricesFile
 }
 
+// LengthText writes a length for a person, with its unit: metres, or feet when imperial,
+// with one decimal ("12.3 m", "40.4 ft").
+func LengthText(opt WriteOptions, m float64) string {
+	if opt.imperial() {
+		return ftOrM(opt, m, 1) + " ft"
+	}
+	return ftOrM(opt, m, 1) + " m"
+}
+
+// PointText writes a pull point for a person, an added handhole's place on its span in the
+// run's units (estimate.PullPoint.Text).
+func PointText(opt WriteOptions, p estimate.PullPoint) string {
+	return p.Text(func(m float64) string { return LengthText(opt, m) })
+}
+
 // ftOrM formats a length for an output edge: metres, or feet when imperial.
 func ftOrM(opt WriteOptions, m float64, decimals int) string {
 	if opt.imperial() {
@@ -757,7 +772,7 @@ func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
 	fmt.Fprintf(w, "structures  %d\n", r.Structures)
 	fmt.Fprintf(w, "junctions   %d\n", r.Junctions)
 	fmt.Fprintf(w, "spans       %d\n", r.Spans)
-	fmt.Fprintf(w, "components  %d (holding buildings)\n", r.Components)
+	fmt.Fprintln(w, piecesLine(r))
 	fmt.Fprintln(w, "pathways:")
 	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', tabwriter.AlignRight)
 	fmt.Fprintf(tw, "  type\tstatus\tcount\tlength %s\t\n", unit)
@@ -817,6 +832,34 @@ func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
 		fmt.Fprintf(w, "  warning: %s\n", t(m))
 	}
 	return nil
+}
+
+// ShownOffPiece is the most buildings off the hub's piece of the network that check's
+// network line names; the hub line below it lists them all.
+const ShownOffPiece = 5
+
+// piecesLine is check's line on how many separate pieces of the pathway network hold
+// buildings (site.CheckReport.Components) and, when the campus is in more than one, how many
+// buildings cannot reach the hub's piece and the first ShownOffPiece of them.
+func piecesLine(r site.CheckReport) string {
+	const head = "network     "
+	switch {
+	case r.Components == 0:
+		return head + "no pathway reaches a building"
+	case r.Components == 1:
+		return head + "in one piece: every pathway that reaches a building joins the others"
+	}
+	line := fmt.Sprintf("%sin %d separate pieces that each hold buildings", head, r.Components)
+	if r.Hub == "" || len(r.Unreachable) == 0 {
+		return line
+	}
+	ids := r.Unreachable[:min(len(r.Unreachable), ShownOffPiece)]
+	more := ""
+	if n := len(r.Unreachable) - len(ids); n > 0 {
+		more = fmt.Sprintf(" and %d more", n)
+	}
+	return fmt.Sprintf("%s; %s off the hub's piece: %s%s", line, Counted(len(r.Unreachable), "building is", "buildings are"),
+		escape.TerminalList(ids), more)
 }
 
 // Counted is n and the words that go with it: one for a count of one, many for any other

@@ -10,6 +10,7 @@ import (
 	"spanwright/route/internal/testsite"
 	"spanwright/route/plan"
 	"spanwright/route/routing"
+	"spanwright/route/site"
 	"strconv"
 	"strings"
 	"testing"
@@ -144,6 +145,32 @@ func TestReasonsInUnits(t *testing.T) {
 	for _, row := range rows[1:] {
 		if m := metresText.FindString(row[reason]); m != "" {
 			t.Errorf("%s %s: imperial reason still says %q", row[0], row[1], m)
+		}
+	}
+}
+
+// TestPiecesLine: check's network line says how many separate pieces of the pathway network
+// hold buildings, never a bare number that reads as a count of buildings, and when there are
+// several, how many buildings are off the hub's piece with the first ShownOffPiece of them.
+func TestPiecesLine(t *testing.T) {
+	t.Parallel()
+	off := []string{"B1", "B2", "B3", "B4", "B5", "B6", "B7"}
+	cases := []struct {
+		name string
+		r    site.CheckReport
+		want string
+	}{
+		{"one piece", site.CheckReport{Components: 1, Hub: "H"}, "network     in one piece: every pathway that reaches a building joins the others"},
+		{"no piece", site.CheckReport{}, "network     no pathway reaches a building"},
+		{"two pieces, one off", site.CheckReport{Components: 2, Hub: "H", Unreachable: off[:1]},
+			"network     in 2 separate pieces that each hold buildings; 1 building is off the hub's piece: [B1]"},
+		{"three pieces, seven off", site.CheckReport{Components: 3, Hub: "H", Unreachable: off},
+			"network     in 3 separate pieces that each hold buildings; 7 buildings are off the hub's piece: [B1 B2 B3 B4 B5] and 2 more"},
+		{"two pieces, no hub", site.CheckReport{Components: 2}, "network     in 2 separate pieces that each hold buildings"},
+	}
+	for _, tc := range cases {
+		if got := piecesLine(tc.r); got != tc.want {
+			t.Errorf("%s: got %q, want %q", tc.name, got, tc.want)
 		}
 	}
 }

@@ -968,8 +968,8 @@ func pullRows(r *route.Result, opt Options) ([]pullRow, int, listed) {
 		if p.AddedTo {
 			added = append(added, "end")
 		}
-		row := pullRow{Link: l.Link.ID, Leg: l.Name, Seq: p.Seq, From: p.From, To: p.To, Spans: strings.Join(p.Spans, " "),
-			Length: opt.length(p.LengthM), Bends: strconv.FormatFloat(p.BendDeg, 'f', 0, 64) + "°", Feed: p.FeedAt,
+		row := pullRow{Link: l.Link.ID, Leg: l.Name, Seq: p.Seq, From: p.From.Text(opt.lengthU), To: p.To.Text(opt.lengthU), Spans: strings.Join(p.Spans, " "),
+			Length: opt.length(p.LengthM), Bends: strconv.FormatFloat(p.BendDeg, 'f', 0, 64) + "°", Feed: p.FeedAt.Text(opt.lengthU),
 			Tension: force(p.TensionN), Other: force(p.OtherN), Rated: force(p.RatedN),
 			BarW: num(math.Min(100*ratio(p), 100)), Pct: pct(ratio(p)), SWBP: group(strconv.FormatFloat(p.SWBPNPerM, 'f', 0, 64)),
 			Added: strings.Join(added, ", "), Over: !p.WithinRating, Reason: p.Reason}
