@@ -195,7 +195,7 @@ func TestReelJoinsInLossBudget(t *testing.T) {
 		t.Errorf("closures: got %v, want %v", got, joins)
 	}
 	if l, ok := testplan.BOMLine(cut.Estimate.BOM, "splice fibre, mid-span joins"); !ok || l.Work != float64(splices) ||
-		!strings.HasPrefix(l.Describe(nil, ""), fmt.Sprintf("splice fibre, mid-span joins: %d at", splices)) {
+		!strings.HasPrefix(l.Describe(nil), fmt.Sprintf("splice fibre, mid-span joins: %d at", splices)) {
 		t.Errorf("splicing labour: got %+v", l)
 	}
 	if _, ok := testplan.BOMLine(base.Estimate.BOM, "splice closure"); ok {

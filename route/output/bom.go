@@ -70,10 +70,7 @@ func qtyDecimals(unit string) int {
 
 // describe is a BOM line's item at the output edge, labour work in feet when imperial.
 func describe(opt WriteOptions, l media.BOMLine) string {
-	if opt.imperial() {
-		return l.Describe(install.MToFt, "ft")
-	}
-	return l.Describe(nil, "")
+	return l.Describe(func(m float64) string { return LengthText(opt, m) })
 }
 
 func pct(bp int64) string { return strconv.FormatFloat(float64(bp)/100, 'f', 2, 64) }

@@ -440,9 +440,20 @@ func (s Summary) HasBill() bool { return s.CostByCategory != nil }
 // CostDriver is one of the largest lines of the bill of materials.
 type CostDriver struct {
 	Category string  `json:"category"`
-	Item     string  `json:"item"`
+	Item     string  `json:"item"` // in metres: summary.json is for programs (ItemText for people)
 	Cents    int64   `json:"cents"`
 	Pct      float64 `json:"pct_of_subtotal"`
+	line     media.BOMLine
+}
+
+// ItemText is the driver's item for a person, a labour line's work and rate written by
+// length (a number of metres with its unit, in the output's units); Item for a driver not
+// made by Summarize.
+func (d CostDriver) ItemText(length func(m float64) string) string {
+	if d.line.Item == "" {
+		return d.Item
+	}
+	return d.line.Describe(length)
 }
 
 // newWorkM is the plan's new civil work in metres (Construction.NewM), 0 without an estimate.
@@ -503,7 +514,7 @@ func Summarize(r *route.Result) Summary {
 			s.CostByCategory[c.Category] = c.Cents
 		}
 		for _, l := range b.Largest(5) {
-			d := CostDriver{Category: l.Category, Item: l.Describe(nil, ""), Cents: l.ExtendedCents}
+			d := CostDriver{Category: l.Category, Item: l.Describe(nil), Cents: l.ExtendedCents, line: l}
 			if b.SubtotalCents > 0 {
 				d.Pct = round1(100 * float64(l.ExtendedCents) / float64(b.SubtotalCents))
 			}

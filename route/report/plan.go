@@ -473,7 +473,7 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 		v.Pulls, v.PullsOver, v.PullsListed = pullRows(r, opt)
 		v.PullPoints = e.AddedPullPoints
 		for _, d := range s.CostDrivers {
-			v.Drivers = append(v.Drivers, driverRow{Category: d.Category, Item: d.Item, Cost: money(d.Cents),
+			v.Drivers = append(v.Drivers, driverRow{Category: d.Category, Item: d.ItemText(opt.lengthU), Cost: money(d.Cents),
 				Pct: strconv.FormatFloat(d.Pct, 'f', 1, 64) + " %"})
 		}
 	}
@@ -511,11 +511,13 @@ func costBars(r *route.Result) ([]bar, string) {
 	}
 	var cats []cat
 	if e := r.Estimate; e != nil && e.BOM != nil {
+		// Labels fit the 230 px left of the bars at the chart's 12 px.
 		names := map[string][2]string{
-			media.CategoryMaterial:     {"material (cable, connectivity)", "c-cable"},
+			media.CategoryMaterial:     {"material: cable, connectivity", "c-cable"},
 			media.CategoryLabour:       {"labour", "c-labour"},
-			media.CategoryConstruction: {"construction (trench, duct, structures)", "c-constr"},
-			media.CategoryOptics:       {"optics (transceivers)", "c-optics"},
+			media.CategoryConstruction: {"construction: civil works", "c-constr"},
+			media.CategoryOptics:       {"optics: transceivers", "c-optics"},
+			media.CategoryBidItems:     {"bid items (price book)", "c-extra"},
 		}
 		for _, st := range e.BOM.Subtotal {
 			n, ok := names[st.Category]
@@ -524,8 +526,8 @@ func costBars(r *route.Result) ([]bar, string) {
 			}
 			cats = append(cats, cat{n[0], st.Cents, n[1]})
 		}
-		cats = append(cats, cat{"contingency", e.BOM.ContingencyCents, "c-extra"},
-			cat{"overhead", e.BOM.OverheadCents, "c-extra"}, cat{"tax", e.BOM.TaxCents, "c-extra"})
+		cats = append(cats, cat{"markup: contingency", e.BOM.ContingencyCents, "c-extra"},
+			cat{"markup: overhead", e.BOM.OverheadCents, "c-extra"}, cat{"tax", e.BOM.TaxCents, "c-extra"})
 	} else {
 		// Without a bill of materials: the cost model's breakdown of the legs.
 		var cable, labour, constr, optics int64
@@ -545,11 +547,14 @@ func costBars(r *route.Result) ([]bar, string) {
 			cats = append(cats, cat{"plan level (markups, other)", r.ExtraCents, "c-extra"})
 		}
 	}
-	var top int64 = 1
+	var top, all int64 = 1, 0
 	for _, c := range cats {
 		top = max(top, c.cents)
+		all += c.cents
 	}
-	const full = 420.0
+	// The longest bar, in px: its value and share (about 130 px) still end inside the
+	// chart's 760.
+	const full = 380.0
 	const rowH = 26.0
 	out := make([]bar, len(cats))
 	for i, c := range cats {
@@ -558,7 +563,12 @@ func costBars(r *route.Result) ([]bar, string) {
 			w = full * float64(c.cents) / float64(top)
 		}
 		y := float64(i) * rowH
-		out[i] = bar{Label: c.label, Value: money(c.cents) + " " + r.Currency, W: num(w), Y: num(y + 4),
+		// The amount (the caption gives the currency) and its share of the chart's total.
+		value := money(c.cents)
+		if all > 0 {
+			value += " (" + strconv.FormatFloat(100*float64(c.cents)/float64(all), 'f', 1, 64) + " %)"
+		}
+		out[i] = bar{Label: c.label, Value: value, W: num(w), Y: num(y + 4),
 			TextY: num(y + 17), ValueX: num(230 + w + 6), Class: c.cls}
 	}
 	return out, num(float64(len(cats))*rowH + 4)
