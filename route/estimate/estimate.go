@@ -74,7 +74,9 @@ type PullSection struct {
 	AddedFrom    bool      // From is a pull point the plan adds
 	AddedTo      bool      // To is a pull point the plan adds
 	WithinRating bool
-	Reason       string // why not within rating
+	// Over lists the limits it goes over (why not within rating) as numbers, written in an
+	// output's units by install.Why.
+	Over []install.Excess
 }
 
 // PullPoint is one end of a pull section: a structure, junction or building by its ID, or a
@@ -422,7 +424,7 @@ func (r *run) pullPlan(i int) legPulls {
 			end := start + sec.LengthM
 			ps := PullSection{Leg: i, Seq: seq, StartM: start, LengthM: sec.LengthM, BendDeg: sec.BendDeg,
 				TensionN: sec.MaxTensionN, RatedN: spec.MaxTensionN, SWBPNPerM: sec.MaxSWBPNPerM,
-				AddedFrom: sec.StartAdded, AddedTo: sec.EndAdded, WithinRating: sec.WithinRating, Reason: sec.Reason}
+				AddedFrom: sec.StartAdded, AddedTo: sec.EndAdded, WithinRating: sec.WithinRating, Over: sec.Over}
 			var fromKey, toKey string
 			ps.From, fromKey = name(start)
 			ps.To, toKey = name(end)
@@ -448,7 +450,7 @@ func (r *run) pullPlan(i int) legPulls {
 			}
 			if !sec.WithinRating {
 				e.warnings = append(e.warnings, fmt.Sprintf("%s %s: pull %d from %s to %s: %s; reroute or add a structure",
-					leg.Link.ID, leg.Name, seq, ps.From, ps.To, sec.Reason))
+					leg.Link.ID, leg.Name, seq, ps.From, ps.To, sec.Reason()))
 			}
 			e.sections = append(e.sections, ps)
 		}

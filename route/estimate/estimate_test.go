@@ -15,6 +15,7 @@ import (
 
 	"spanwright/geo"
 	"spanwright/media"
+	"spanwright/media/install"
 	"spanwright/route"
 	"spanwright/route/estimate"
 	"spanwright/route/internal/testplan"
@@ -111,7 +112,7 @@ func TestPullPointAdded(t *testing.T) {
 	places := map[string]bool{}
 	for _, p := range r.Estimate.Pulls {
 		if p.LengthM > 100+1e-9 || !p.WithinRating {
-			t.Errorf("pull %s → %s: %.1f m, within %v (%s)", p.From, p.To, p.LengthM, p.WithinRating, p.Reason)
+			t.Errorf("pull %s → %s: %.1f m, within %v (%s)", p.From, p.To, p.LengthM, p.WithinRating, install.Why(p.Over, install.Units{}))
 		}
 		if p.AddedFrom {
 			places[p.From.String()] = true
@@ -135,7 +136,7 @@ func TestPullPointAdded(t *testing.T) {
 	var over []string
 	for _, p := range r.Estimate.Pulls {
 		if p.Leg == i && !p.WithinRating {
-			over = append(over, p.Reason)
+			over = append(over, install.Why(p.Over, install.Units{}))
 		}
 	}
 	// A single 90° bend cannot be split: each bend becomes its own section, out of rating.
@@ -596,10 +597,10 @@ func TestPullSidewallLimit(t *testing.T) {
 	for _, p := range low.Estimate.Pulls {
 		switch {
 		case p.SWBPNPerM <= limit+1e-9:
-		case !p.WithinRating && strings.Contains(p.Reason, "sidewall pressure"):
+		case !p.WithinRating && strings.Contains(install.Why(p.Over, install.Units{}), "sidewall pressure"):
 			changed = true
 		default:
-			t.Errorf("pull %s → %s: sidewall pressure %.1f N/m over the %.1f N/m limit, within %v (%s)", p.From, p.To, p.SWBPNPerM, limit, p.WithinRating, p.Reason)
+			t.Errorf("pull %s → %s: sidewall pressure %.1f N/m over the %.1f N/m limit, within %v (%s)", p.From, p.To, p.SWBPNPerM, limit, p.WithinRating, install.Why(p.Over, install.Units{}))
 		}
 	}
 	if !changed {

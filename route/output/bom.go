@@ -380,7 +380,7 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 			workbook.Number(u.m(p.StartM), 1), workbook.Number(u.m(p.LengthM), 1), workbook.Number(p.BendDeg, 1),
 			workbook.Number(u.m(p.BendRadiusM), 2), workbook.Number(u.n(p.TensionN), 1), workbook.Number(u.n(p.OtherN), 1),
 			workbook.Number(u.n(p.RatedN), 1), workbook.Number(100*p.TensionN/p.RatedN, 1), workbook.Number(u.nPerM(p.SWBPNPerM), 1),
-			workbook.Bool(p.AddedFrom), workbook.Bool(p.AddedTo), workbook.Bool(p.WithinRating), workbook.Text(p.Reason))
+			workbook.Bool(p.AddedFrom), workbook.Bool(p.AddedTo), workbook.Bool(p.WithinRating), workbook.Text(install.Why(p.Over, PullUnits(opt))))
 	}
 	for _, f := range r.Estimate.Fill {
 		ods := make([]string, len(f.CablesODMM))

@@ -10,6 +10,7 @@ import (
 	"path/filepath"
 	"slices"
 	"spanwright/media"
+	"spanwright/media/install"
 	"spanwright/route/estimate"
 	"spanwright/route/internal/testplan"
 	"spanwright/route/plan"
@@ -552,5 +553,22 @@ func TestAddedPullPointInUnits(t *testing.T) {
 		if !found || metres {
 			t.Errorf("%s: pull sections sheet: %q found %v, a point in metres %v", tc.name, tc.want, found, metres)
 		}
+	}
+}
+
+// TestPullUnits: why a pull is over its limits is written in the run's units, as the pull
+// sheet's columns are: feet, pound-force and lbf/ft when imperial (NIST SP 811 B.8), SI
+// otherwise.
+func TestPullUnits(t *testing.T) {
+	t.Parallel()
+	over := []install.Excess{{Limit: install.OverTension, Value: 3000, Max: 2670}, {Limit: install.OverSidewall, Value: 1800, Max: 1460},
+		{Limit: install.OverLength, Value: 160.24, Max: 150}}
+	imp := "tension 674.4 lbf over rating 600.2 lbf; sidewall pressure 123.3 lbf/ft over 100.0 lbf/ft; length 525.7 ft over 492.1 ft between pull points"
+	if got := install.Why(over, PullUnits(WriteOptions{Units: UnitsImperial})); got != imp {
+		t.Errorf("imperial: got %q, want %q", got, imp)
+	}
+	si := "tension 3000.0 N over rating 2670.0 N; sidewall pressure 1800.0 N/m over 1460.0 N/m; length 160.2 m over 150.0 m between pull points"
+	if got := install.Why(over, PullUnits(WriteOptions{})); got != si {
+		t.Errorf("metric: got %q, want %q", got, si)
 	}
 }

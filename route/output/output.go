@@ -764,6 +764,20 @@ func PointText(opt WriteOptions, p estimate.PullPoint) string {
 	return p.Text(func(m float64) string { return LengthText(opt, m) })
 }
 
+// PullUnits writes the figures of a pull's excesses (install.Excess) for a person: metres,
+// newtons and N/m, or feet, pound-force and lbf/ft when imperial, with one decimal.
+func PullUnits(opt WriteOptions) install.Units {
+	if !opt.imperial() {
+		return install.Units{}
+	}
+	one := func(v float64, unit string) string { return strconv.FormatFloat(v, 'f', 1, 64) + " " + unit }
+	return install.Units{
+		Length:   func(m float64) string { return LengthText(opt, m) },
+		Force:    func(n float64) string { return one(install.NToLbf(n), "lbf") },
+		Pressure: func(v float64) string { return one(install.NPerMToLbfPerFt(v), "lbf/ft") },
+	}
+}
+
 // ftOrM formats a length for an output edge: metres, or feet when imperial.
 func ftOrM(opt WriteOptions, m float64, decimals int) string {
 	if opt.imperial() {

@@ -210,6 +210,7 @@ type planView struct {
 	PullsOver  int
 	PullPoints int
 	Force      string
+	Sidewall   string // the unit of sidewall pressure: N/m, or lbf/ft when imperial
 	Drivers    []driverRow
 	BOMLabel   string
 	Subtotal   string
@@ -477,10 +478,7 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 				Pct: strconv.FormatFloat(d.Pct, 'f', 1, 64) + " %"})
 		}
 	}
-	v.Force = "N"
-	if opt.imperial() {
-		v.Force = "lbf"
-	}
+	v.Force, v.Sidewall = opt.forceUnit(), opt.sidewallUnit()
 	v.Warnings = append([]string(nil), r.Warnings...)
 	if err := ctx.Err(); err != nil {
 		return nil, err
@@ -965,6 +963,17 @@ func pullRows(r *route.Result, opt Options) ([]pullRow, int, listed) {
 		}
 		return group(strconv.FormatFloat(n, 'f', 1, 64))
 	}
+	// Sidewall pressure in the table's unit (Options.sidewallUnit), no decimals.
+	sidewall := func(v float64) string {
+		if opt.imperial() {
+			v = install.NPerMToLbfPerFt(v)
+		}
+		return group(strconv.FormatFloat(v, 'f', 0, 64))
+	}
+	// Why a pull is over its limits, in the report's units and formatting.
+	units := install.Units{Length: opt.lengthU,
+		Force:    func(n float64) string { return force(n) + " " + opt.forceUnit() },
+		Pressure: func(v float64) string { return sidewall(v) + " " + opt.sidewallUnit() }}
 	over := countOf(all, func(p estimate.PullSection) bool { return !p.WithinRating })
 	shown := listOf(len(all))
 	out := make([]pullRow, shown.Shown)
@@ -981,8 +990,8 @@ func pullRows(r *route.Result, opt Options) ([]pullRow, int, listed) {
 		row := pullRow{Link: l.Link.ID, Leg: l.Name, Seq: p.Seq, From: p.From.Text(opt.lengthU), To: p.To.Text(opt.lengthU), Spans: strings.Join(p.Spans, " "),
 			Length: opt.length(p.LengthM), Bends: strconv.FormatFloat(p.BendDeg, 'f', 0, 64) + "°", Feed: p.FeedAt.Text(opt.lengthU),
 			Tension: force(p.TensionN), Other: force(p.OtherN), Rated: force(p.RatedN),
-			BarW: num(math.Min(100*ratio(p), 100)), Pct: pct(ratio(p)), SWBP: group(strconv.FormatFloat(p.SWBPNPerM, 'f', 0, 64)),
-			Added: strings.Join(added, ", "), Over: !p.WithinRating, Reason: p.Reason}
+			BarW: num(math.Min(100*ratio(p), 100)), Pct: pct(ratio(p)), SWBP: sidewall(p.SWBPNPerM),
+			Added: strings.Join(added, ", "), Over: !p.WithinRating, Reason: install.Why(p.Over, units)}
 		out[i] = row
 	}
 	return out, over, shown
