@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"encoding/json"
+	"errors"
 	"fmt"
 	"io"
 	"maps"
@@ -345,6 +346,20 @@ func InUnits(opt WriteOptions, text string) string {
 	})
 }
 
+// InfeasibleInUnits is err with the reasons of a route.InfeasibleError written in the run's
+// units (InUnits), as the terminal's own list of infeasible legs; any other err unchanged.
+func InfeasibleInUnits(opt WriteOptions, err error) error {
+	var ie *route.InfeasibleError
+	if !opt.imperial() || !errors.As(err, &ie) {
+		return err
+	}
+	legs := make([]string, len(ie.Legs))
+	for i, l := range ie.Legs {
+		legs[i] = InUnits(opt, l)
+	}
+	return &route.InfeasibleError{Legs: legs}
+}
+
 // passageHead names links.csv's columns of passageText.
 var passageHead = []string{"from_entrance", "to_entrance", "crosses", "turns"}
 
@@ -614,7 +629,7 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 				fmt.Fprintf(w, "  and %d more; links.csv lists every leg with its reason\n", s.Infeasible-shown)
 				break
 			}
-			fmt.Fprintf(w, "  %s/%s: %s\n", t(l.Link.ID), t(l.Name), t(l.Reason))
+			fmt.Fprintf(w, "  %s/%s: %s\n", t(l.Link.ID), t(l.Name), t(InUnits(opt, l.Reason)))
 			shown++
 		}
 	}

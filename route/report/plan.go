@@ -479,7 +479,11 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 		}
 	}
 	v.Force, v.Sidewall = opt.forceUnit(), opt.sidewallUnit()
-	v.Warnings = append([]string(nil), r.Warnings...)
+	// Warnings are text made inside the model in metres (summary.json keeps them so): the
+	// report writes their lengths in its units, as it does the rule engine's reasons.
+	for _, w := range r.Warnings {
+		v.Warnings = append(v.Warnings, output.InUnits(output.WriteOptions{Units: opt.Units}, w))
+	}
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
