@@ -144,6 +144,9 @@ func TestBadInput(t *testing.T) {
 		{"unknown hub", []string{"plan", "testdata/plans/unknown_hub.yaml", "--out", "x"}, exitInvalid, []string{`unknown_hub.yaml:3:6: hub: want the id of a building, got "NOPE", which no building has`}},
 		{"unknown link buildings, all reported", []string{"plan", "testdata/plans/unknown_link.yaml", "--out", "x"}, exitInvalid,
 			[]string{`unknown_link.yaml:5:10: links[1].to: unknown building "GHOST"`, `unknown_link.yaml:6:12: links[2].from: unknown building "PHANTOM"`}},
+		// A warning's length in the run's units: 0.5 m is 1.6 ft (1 ft = 0.3048 m exactly, NIST SP 811 B.8).
+		{"check in feet", []string{"check", "--units", "imperial", "testdata/plans/island.yaml"}, exitInfeasible,
+			[]string{"building footprint within 1.6 ft (design: snap_m)"}},
 		{"check names unreachable", []string{"check", "testdata/plans/island.yaml"}, exitInfeasible, []string{"cannot reach the hub HQ: [ISLE]",
 			"network     in 2 separate pieces that each hold buildings; 1 building is off the hub's piece: [ISLE]\n",
 			"cut off: building ISLE is cut off from HQ: the pathways that reach it (D2) join none that reaches HQ"}},

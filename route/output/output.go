@@ -801,7 +801,8 @@ func ftOrM(opt WriteOptions, m float64, decimals int) string {
 	return strconv.FormatFloat(m, 'f', decimals, 64)
 }
 
-// PrintCheck writes a check report as aligned text; lengths in metres, or feet when imperial.
+// PrintCheck writes a check report as aligned text; lengths in metres, or feet when imperial
+// (those inside the texts of cut-off buildings, near misses and warnings by InUnits).
 func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
 	t := escape.Terminal // ids and names from the input, each within a line
 	unit, scale := "m", 1.0
@@ -833,7 +834,7 @@ func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
 	default:
 		fmt.Fprintf(w, "hub         %s: %s cannot reach it: %s\n", t(r.Hub), Counted(len(r.Unreachable), "building", "buildings"), escape.TerminalList(r.Unreachable))
 		for _, why := range r.CutOff {
-			fmt.Fprintf(w, "  cut off: %s\n", t(why))
+			fmt.Fprintf(w, "  cut off: %s\n", t(InUnits(opt, why)))
 		}
 	}
 	if len(r.ThroughOnly) > 0 {
@@ -865,11 +866,11 @@ func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
 	}
 	fmt.Fprintf(w, "near misses %d\n", len(r.NearMisses))
 	for _, m := range r.NearMisses {
-		fmt.Fprintf(w, "  %s\n", t(m))
+		fmt.Fprintf(w, "  %s\n", t(InUnits(opt, m)))
 	}
 	fmt.Fprintf(w, "warnings    %d\n", len(r.Warnings))
 	for _, m := range r.Warnings {
-		fmt.Fprintf(w, "  warning: %s\n", t(m))
+		fmt.Fprintf(w, "  warning: %s\n", t(InUnits(opt, m)))
 	}
 	return nil
 }
