@@ -170,6 +170,27 @@ func TestBadInput(t *testing.T) {
 	}
 }
 
+// TestCopperReasonNamesItsWay: a link no medium can route (fibre out of reach, copper kept off
+// outdoor spans by copper-outdoor, NFPA 70 800.90) says of copper what on the way between its
+// buildings keeps it out, the aerial span and the rule, not every kind of span of the campus
+// it may not use (the tunnel to NEAR is off the way).
+func TestCopperReasonNamesItsWay(t *testing.T) {
+	out := filepath.Join(t.TempDir(), "out")
+	stdout, msg, code := run(t, "plan", "testdata/plans/far.yaml", "--out", out)
+	if code != exitInfeasible {
+		t.Fatalf("exit %d, want %d (%s)", code, exitInfeasible, msg)
+	}
+	const want = "HQ-FAR/primary: cat6a: every pathway between HQ and FAR runs on spans it may not use; the shortest runs on aerial spans (cat6a rejected by copper-outdoor: the channel leaves the building"
+	if !strings.Contains(stdout, want) {
+		t.Errorf("output lacks %q:\n%s", want, stdout)
+	}
+	for _, line := range strings.Split(stdout, "\n") {
+		if strings.Contains(line, "HQ-FAR/primary") && strings.Contains(line, "tunnel") {
+			t.Errorf("the reason names the tunnel, off the link's way: %s", line)
+		}
+	}
+}
+
 // TestCutOffBuilding: a building no pathway joins to the hub's network does not stop the
 // plan (issue 13): its leg is infeasible with a reason that names the pathway left apart,
 // every other link is planned and written, and the exit status is 3, as for any infeasible leg.
