@@ -382,19 +382,20 @@ func (b *BOM) total() {
 
 // Describe is the line's item in words; for labour it adds the work and the rate, e.g.
 // "pull cable in duct: 1234.5 m at 60.0 m per hour", "terminate fibre strands: 96 at 8 per
-// hour". perM scales metres for another unit (nil keeps metres, with unit name m).
-func (l BOMLine) Describe(perM func(float64) float64, unitName string) string {
+// hour". length writes a number of metres with its unit, in the units and style of the
+// output the text goes to (nil: one decimal and "m").
+func (l BOMLine) Describe(length func(m float64) string) string {
 	if l.WorkUnit == "" {
 		return l.Item
 	}
 	amount := func(x float64) string {
-		if l.WorkUnit != UnitM {
+		switch {
+		case l.WorkUnit != UnitM:
 			return strconv.FormatFloat(x, 'f', -1, 64)
-		}
-		if perM == nil {
+		case length == nil:
 			return strconv.FormatFloat(x, 'f', 1, 64) + " m"
 		}
-		return strconv.FormatFloat(perM(x), 'f', 1, 64) + " " + unitName
+		return length(x)
 	}
 	return fmt.Sprintf("%s: %s at %s per hour", l.Item, amount(l.Work), amount(l.RatePerHour))
 }

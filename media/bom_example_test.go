@@ -26,7 +26,7 @@ func ExamplePriceBook_Bill() {
 		return
 	}
 	for _, l := range bom.Lines {
-		fmt.Printf("%-8s %-50s %7.2f %-4s × %7s = %8s\n", l.Category, l.Describe(nil, ""), l.Quantity, l.Unit,
+		fmt.Printf("%-8s %-50s %7.2f %-4s × %7s = %8s\n", l.Category, l.Describe(nil), l.Quantity, l.Unit,
 			media.FormatCents(l.UnitCents), media.FormatCents(l.ExtendedCents))
 	}
 	fmt.Println("subtotal", media.FormatCents(bom.SubtotalCents), "total", media.FormatCents(bom.TotalCents), bom.Currency)

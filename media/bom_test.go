@@ -4,6 +4,7 @@ import (
 	"errors"
 	"math/rand/v2"
 	"slices"
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -91,14 +92,15 @@ func TestBillWorked(t *testing.T) {
 			t.Errorf("%s: got %d cents, want %d", c.name, c.got, c.want)
 		}
 	}
-	if got := b.Lines[2].Describe(nil, ""); got != "pull cable in duct: 125.0 m at 60.0 m per hour" {
+	if got := b.Lines[2].Describe(nil); got != "pull cable in duct: 125.0 m at 60.0 m per hour" {
 		t.Errorf("labour described: got %q", got)
 	}
-	ft := func(m float64) float64 { return m / 0.3048 }
-	if got := b.Lines[2].Describe(ft, "ft"); got != "pull cable in duct: 410.1 ft at 196.9 ft per hour" {
+	// 1 ft = 0.3048 m exactly (NIST SP 811, B.8).
+	ft := func(m float64) string { return strconv.FormatFloat(m/0.3048, 'f', 1, 64) + " ft" }
+	if got := b.Lines[2].Describe(ft); got != "pull cable in duct: 410.1 ft at 196.9 ft per hour" {
 		t.Errorf("labour described in feet: got %q", got)
 	}
-	if got := b.Lines[0].Describe(ft, "ft"); got != "cable os2 osp-loose-tube 12" {
+	if got := b.Lines[0].Describe(ft); got != "cable os2 osp-loose-tube 12" {
 		t.Errorf("material described: got %q", got)
 	}
 	if top := b.Largest(2); len(top) != 2 || top[0].ExtendedCents != 143000 || top[1].ExtendedCents != 62000 {

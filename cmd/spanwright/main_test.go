@@ -144,7 +144,11 @@ func TestBadInput(t *testing.T) {
 		{"unknown hub", []string{"plan", "testdata/plans/unknown_hub.yaml", "--out", "x"}, exitInvalid, []string{`unknown_hub.yaml:3:6: hub: want the id of a building, got "NOPE", which no building has`}},
 		{"unknown link buildings, all reported", []string{"plan", "testdata/plans/unknown_link.yaml", "--out", "x"}, exitInvalid,
 			[]string{`unknown_link.yaml:5:10: links[1].to: unknown building "GHOST"`, `unknown_link.yaml:6:12: links[2].from: unknown building "PHANTOM"`}},
+		// A warning's length in the run's units: 0.5 m is 1.6 ft (1 ft = 0.3048 m exactly, NIST SP 811 B.8).
+		{"check in feet", []string{"check", "--units", "imperial", "testdata/plans/island.yaml"}, exitInfeasible,
+			[]string{"building footprint within 1.6 ft (design: snap_m)"}},
 		{"check names unreachable", []string{"check", "testdata/plans/island.yaml"}, exitInfeasible, []string{"cannot reach the hub HQ: [ISLE]",
+			"network     in 2 separate pieces that each hold buildings; 1 building is off the hub's piece: [ISLE]\n",
 			"cut off: building ISLE is cut off from HQ: the pathways that reach it (D2) join none that reaches HQ"}},
 	}
 	for _, tc := range cases {
@@ -163,6 +167,27 @@ func TestBadInput(t *testing.T) {
 	if _, err := os.Stat("x"); err == nil {
 		t.Errorf("a failed plan created its output folder")
 		os.RemoveAll("x")
+	}
+}
+
+// TestCopperReasonNamesItsWay: a link no medium can route (fibre out of reach, copper kept off
+// outdoor spans by copper-outdoor, NFPA 70 800.90) says of copper what on the way between its
+// buildings keeps it out, the aerial span and the rule, not every kind of span of the campus
+// it may not use (the tunnel to NEAR is off the way).
+func TestCopperReasonNamesItsWay(t *testing.T) {
+	out := filepath.Join(t.TempDir(), "out")
+	stdout, msg, code := run(t, "plan", "testdata/plans/far.yaml", "--out", out)
+	if code != exitInfeasible {
+		t.Fatalf("exit %d, want %d (%s)", code, exitInfeasible, msg)
+	}
+	const want = "HQ-FAR/primary: cat6a: every pathway between HQ and FAR runs on spans it may not use; the shortest runs on aerial spans (cat6a rejected by copper-outdoor: the channel leaves the building"
+	if !strings.Contains(stdout, want) {
+		t.Errorf("output lacks %q:\n%s", want, stdout)
+	}
+	for _, line := range strings.Split(stdout, "\n") {
+		if strings.Contains(line, "HQ-FAR/primary") && strings.Contains(line, "tunnel") {
+			t.Errorf("the reason names the tunnel, off the link's way: %s", line)
+		}
 	}
 }
 

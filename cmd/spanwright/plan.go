@@ -112,7 +112,7 @@ func runPlan(ctx context.Context, fsys fs.FS, p *plan.Plan, out string, run plan
 		return err
 	}
 	fmt.Fprintf(w, "outputs written to %s\n", escape.Terminal(out))
-	return res.Infeasible()
+	return output.InfeasibleInUnits(opt, res.Infeasible())
 }
 
 // stage is told when runPlan has read the campus ("loaded") and planned ("planned"); it does

@@ -3,6 +3,7 @@ package install
 import (
 	"fmt"
 	"math"
+	"strconv"
 	"strings"
 )
 
@@ -48,8 +49,10 @@ type Section struct {
 	MaxTensionN  float64 // MaxTensionN of the Best pull, N
 	MaxSWBPNPerM float64 // MaxSWBPNPerM of the Best pull, N/m
 
-	WithinRating bool   // tension, bends, length and sidewall pressure all within the PullSpec
-	Reason       string // why not WithinRating, "" when it is; fixed format, one decimal
+	WithinRating bool // tension, bends, length and sidewall pressure all within the PullSpec
+	// Over lists the limits of the PullSpec the section goes over (why not WithinRating),
+	// as numbers; empty when it is within rating. Reason writes them in metric units.
+	Over []Excess
 
 	StartAdded bool // the pull point at StartM was added by Sections
 	EndAdded   bool // the pull point at the section's end was added by Sections
@@ -258,22 +261,79 @@ func (sp PullSpec) evaluate(pcs []piece) Section {
 	sec := sp.measure(merge(nil, pcs), true)
 	sec.StartM = pcs[0].startM
 
-	var why []string
 	if sec.MaxTensionN > sp.MaxTensionN {
-		why = append(why, fmt.Sprintf("tension %.1f N over rating %.1f N", sec.MaxTensionN, sp.MaxTensionN))
+		sec.Over = append(sec.Over, Excess{Limit: OverTension, Value: sec.MaxTensionN, Max: sp.MaxTensionN})
 	}
 	if sp.MaxSWBPNPerM > 0 && sec.MaxSWBPNPerM > sp.MaxSWBPNPerM {
-		why = append(why, fmt.Sprintf("sidewall pressure %.1f N/m over %.1f N/m", sec.MaxSWBPNPerM, sp.MaxSWBPNPerM))
+		sec.Over = append(sec.Over, Excess{Limit: OverSidewall, Value: sec.MaxSWBPNPerM, Max: sp.MaxSWBPNPerM})
 	}
 	if sp.bendsOver(sec) {
-		why = append(why, fmt.Sprintf("bends %.1f° over %.1f° between pull points", sec.BendDeg, sp.MaxBendDeg))
+		sec.Over = append(sec.Over, Excess{Limit: OverBends, Value: sec.BendDeg, Max: sp.MaxBendDeg})
 	}
 	if sp.lengthOver(sec) {
-		why = append(why, fmt.Sprintf("length %.1f m over %.1f m between pull points", sec.LengthM, sp.MaxLengthM))
+		sec.Over = append(sec.Over, Excess{Limit: OverLength, Value: sec.LengthM, Max: sp.MaxLengthM})
 	}
-	sec.Reason = strings.Join(why, "; ")
 	return sec
 }
+
+// Limits of a pull that a section may go over (Excess.Limit).
+const (
+	OverTension  = "tension"           // newtons
+	OverSidewall = "sidewall pressure" // newtons per metre
+	OverBends    = "bends"             // degrees between pull points
+	OverLength   = "length"            // metres between pull points
+)
+
+// Excess is one limit of the PullSpec a section goes over: the section's figure and the
+// limit, both in the limit's unit (newtons, N/m, degrees or metres; see OverTension…).
+type Excess struct {
+	Limit      string
+	Value, Max float64
+}
+
+// Units writes the figures of an Excess for an output: each func formats a number in its SI
+// unit as text with its unit ("12.3 m", "40.4 ft"); a nil func writes the SI unit with one
+// decimal.
+type Units struct {
+	Length   func(m float64) string
+	Force    func(n float64) string
+	Pressure func(nPerM float64) string
+}
+
+// Text is the excess in words, its figures written by u: "tension 3000.0 N over rating
+// 2670.0 N", "length 160.2 m over 150.0 m between pull points".
+func (x Excess) Text(u Units) string {
+	si := func(f func(float64) string, unit string) func(float64) string {
+		if f != nil {
+			return f
+		}
+		return func(v float64) string { return strconv.FormatFloat(v, 'f', 1, 64) + " " + unit }
+	}
+	switch x.Limit {
+	case OverTension:
+		f := si(u.Force, "N")
+		return "tension " + f(x.Value) + " over rating " + f(x.Max)
+	case OverSidewall:
+		f := si(u.Pressure, "N/m")
+		return "sidewall pressure " + f(x.Value) + " over " + f(x.Max)
+	case OverBends:
+		return fmt.Sprintf("bends %.1f° over %.1f° between pull points", x.Value, x.Max)
+	}
+	f := si(u.Length, "m")
+	return "length " + f(x.Value) + " over " + f(x.Max) + " between pull points"
+}
+
+// Why writes over (a section's Over) as one text, its figures written by u; "" when empty.
+func Why(over []Excess, u Units) string {
+	why := make([]string, len(over))
+	for i, x := range over {
+		why[i] = x.Text(u)
+	}
+	return strings.Join(why, "; ")
+}
+
+// Reason is why the section is not within rating in SI units (Why with Units{}); "" when it is.
+func (s Section) Reason() string { return Why(s.Over, Units{}) }
 
 // measure plans the pull of a section of steps (validated by Sections): lengths, bends, both
 // pulls, the best one and whether it is within rating, with the same arithmetic as evaluate

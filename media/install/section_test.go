@@ -4,6 +4,7 @@ import (
 	"errors"
 	"math"
 	"slices"
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -139,8 +140,8 @@ func TestSections(t *testing.T) {
 				if tc.wantLengthMax > 0 && s.LengthM > tc.wantLengthMax {
 					t.Errorf("%s: section %d is %v m, over %v m", tc.name, k, s.LengthM, tc.wantLengthMax)
 				}
-				if s.WithinRating != (s.Reason == "") {
-					t.Errorf("%s: section %d WithinRating %v with reason %q", tc.name, k, s.WithinRating, s.Reason)
+				if s.WithinRating != (s.Reason() == "") {
+					t.Errorf("%s: section %d WithinRating %v with reason %q", tc.name, k, s.WithinRating, s.Reason())
 				}
 			}
 			if !slicesNear(bends, tc.wantBendDeg, 1e-9) {
@@ -207,7 +208,7 @@ func TestSectionsDetail(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if got, want := plan.Sections[1].Reason, "bends 200.0° over 180.0° between pull points"; got != want {
+		if got, want := plan.Sections[1].Reason(), "bends 200.0° over 180.0° between pull points"; got != want {
 			t.Errorf("got %q, want %q", got, want)
 		}
 	})
@@ -383,8 +384,40 @@ func TestMeasureIsEvaluate(t *testing.T) {
 		got := spec.measure(buf, false)
 		if got.LengthM != want.LengthM || got.BendDeg != want.BendDeg || got.MaxTensionN != want.MaxTensionN ||
 			got.MaxSWBPNPerM != want.MaxSWBPNPerM || got.Best != want.Best || got.WithinRating != want.WithinRating ||
-			(want.Reason == "") != want.WithinRating || !slices.Equal(got.Steps, want.Steps) {
+			(want.Reason() == "") != want.WithinRating || !slices.Equal(got.Steps, want.Steps) {
 			t.Fatalf("trial %d: measure %+v, evaluate %+v", trial, got, want)
 		}
+	}
+}
+
+// TestExcessText: a section's excesses stay numbers in their SI units and are written by the
+// output's units: SI with one decimal by default, each quantity by its own formatter when
+// given (1 ft = 0.3048 m and 1 lbf = 4.4482216152605 N exactly, NIST SP 811 B.8).
+func TestExcessText(t *testing.T) {
+	t.Parallel()
+	over := []Excess{
+		{Limit: OverTension, Value: 3000, Max: 2670},
+		{Limit: OverSidewall, Value: 1800, Max: 1460},
+		{Limit: OverBends, Value: 200, Max: 180},
+		{Limit: OverLength, Value: 160.24, Max: 150},
+	}
+	si := "tension 3000.0 N over rating 2670.0 N; sidewall pressure 1800.0 N/m over 1460.0 N/m; " +
+		"bends 200.0° over 180.0° between pull points; length 160.2 m over 150.0 m between pull points"
+	if got := Why(over, Units{}); got != si {
+		t.Errorf("SI: got %q, want %q", got, si)
+	}
+	one := func(v float64, unit string) string { return strconv.FormatFloat(v, 'f', 1, 64) + " " + unit }
+	imp := Units{
+		Length:   func(m float64) string { return one(m/0.3048, "ft") },
+		Force:    func(n float64) string { return one(n/4.4482216152605, "lbf") },
+		Pressure: func(v float64) string { return one(v*0.3048/4.4482216152605, "lbf/ft") },
+	}
+	want := "tension 674.4 lbf over rating 600.2 lbf; sidewall pressure 123.3 lbf/ft over 100.0 lbf/ft; " +
+		"bends 200.0° over 180.0° between pull points; length 525.7 ft over 492.1 ft between pull points"
+	if got := Why(over, imp); got != want {
+		t.Errorf("imperial: got %q, want %q", got, want)
+	}
+	if got := (Section{}).Reason(); got != "" {
+		t.Errorf("within rating: reason %q", got)
 	}
 }

@@ -7,6 +7,7 @@ import (
 	"math"
 	"slices"
 	"sort"
+	"strconv"
 
 	"spanwright/geo"
 	"spanwright/media"
@@ -55,26 +56,53 @@ type Estimate struct {
 // (pathway type duct) only: cable laid in tunnels, trays, on poles or in a trench is not
 // pulled through a duct, and every change to or from duct is a pull point.
 type PullSection struct {
-	Leg      int      // index in Result.Legs
-	Seq      int      // 1-based within the leg
-	From, To string   // pull points: a structure or junction ID, a building ID, or a new handhole on a span
-	Spans    []string // span IDs in the section, in travel order
-	StartM   float64  // where the section starts along the leg's spans, from its served end, in metres
+	Leg      int       // index in Result.Legs
+	Seq      int       // 1-based within the leg
+	From, To PullPoint // the pull points at its ends
+	Spans    []string  // span IDs in the section, in travel order
+	StartM   float64   // where the section starts along the leg's spans, from its served end, in metres
 	LengthM  float64
 	BendDeg  float64 // sum of the section's bends, in degrees
 	// BendRadiusM is the conduit bend radius the capstan's sidewall pressure uses (TIA-569
 	// multiples of the duct ID), the smallest in the section; 0 without bends.
 	BendRadiusM  float64
-	FeedAt       string  // the pull point where the cable is fed: From or To
-	TensionN     float64 // highest tension of the pull from FeedAt, in newtons
-	OtherN       float64 // highest tension when fed from the other end, in newtons
-	RatedN       float64 // the construction's maximum pulling tension, in newtons
-	SWBPNPerM    float64 // highest sidewall bearing pressure at a bend, T/R, in N/m
-	AddedFrom    bool    // From is a pull point the plan adds
-	AddedTo      bool    // To is a pull point the plan adds
+	FeedAt       PullPoint // the pull point where the cable is fed: From or To
+	TensionN     float64   // highest tension of the pull from FeedAt, in newtons
+	OtherN       float64   // highest tension when fed from the other end, in newtons
+	RatedN       float64   // the construction's maximum pulling tension, in newtons
+	SWBPNPerM    float64   // highest sidewall bearing pressure at a bend, T/R, in N/m
+	AddedFrom    bool      // From is a pull point the plan adds
+	AddedTo      bool      // To is a pull point the plan adds
 	WithinRating bool
-	Reason       string // why not within rating
+	// Over lists the limits it goes over (why not within rating) as numbers, written in an
+	// output's units by install.Why.
+	Over []install.Excess
 }
+
+// PullPoint is one end of a pull section: a structure, junction or building by its ID, or a
+// handhole the plan adds on a span, AtM metres from the span's from end. Its length stays a
+// number here; Text writes it in the units of the output it goes to.
+type PullPoint struct {
+	ID   string  // structure, junction or building ID; "" for a handhole the plan adds
+	Span string  // the span an added handhole stands on; "" for an ID
+	AtM  float64 // where on Span, in metres from its from end
+}
+
+// Text is the pull point as a person reads it: its ID, or "new handhole on SPAN at LENGTH"
+// with the offset written by length (the output's units; a number and its unit).
+func (p PullPoint) Text(length func(m float64) string) string {
+	if p.Span == "" {
+		return p.ID
+	}
+	return "new handhole on " + p.Span + " at " + length(p.AtM)
+}
+
+// MetresText writes a length as the estimate's warnings do (summary.json keeps them
+// metric): one decimal and "m".
+func MetresText(m float64) string { return strconv.FormatFloat(m, 'f', 1, 64) + " m" }
+
+// String is Text in metres (MetresText).
+func (p PullPoint) String() string { return p.Text(MetresText) }
 
 // DuctFill is the fill of one duct of a span (NFPA 70 Chapter 9 Table 1) and, for three
 // cables of equal diameter, its jam ratio 1.05·D/d, jam-prone from 2.8 to 3.2 (NFPA 70
@@ -295,16 +323,16 @@ func (r *run) pullPlan(i int) legPulls {
 		}
 		return rm
 	}
-	name := func(x float64) (label, key string) {
+	name := func(x float64) (at PullPoint, key string) {
 		for j, c := range cum {
 			if math.Abs(x-c) < 0.01 {
 				switch j {
 				case 0:
-					return leg.Link.To, "B:" + leg.Link.To
+					return PullPoint{ID: leg.Link.To}, "B:" + leg.Link.To
 				case len(cum) - 1:
-					return leg.Link.From, "B:" + leg.Link.From
+					return PullPoint{ID: leg.Link.From}, "B:" + leg.Link.From
 				}
-				return juncs[j], "J:" + juncs[j]
+				return PullPoint{ID: juncs[j]}, "J:" + juncs[j]
 			}
 		}
 		j := sort.SearchFloat64s(cum, x) - 1
@@ -313,7 +341,7 @@ func (r *run) pullPlan(i int) legPulls {
 		if leg.Steps[j].Reverse {
 			off = spans[j].LengthM - off
 		}
-		return fmt.Sprintf("new handhole on %s at %.1f m", spans[j].ID, off), fmt.Sprintf("S:%s@%.0f", spans[j].ID, off)
+		return PullPoint{Span: spans[j].ID, AtM: off}, fmt.Sprintf("S:%s@%.0f", spans[j].ID, off)
 	}
 	seq := 0
 	for j := 0; j < len(spans); {
@@ -396,7 +424,7 @@ func (r *run) pullPlan(i int) legPulls {
 			end := start + sec.LengthM
 			ps := PullSection{Leg: i, Seq: seq, StartM: start, LengthM: sec.LengthM, BendDeg: sec.BendDeg,
 				TensionN: sec.MaxTensionN, RatedN: spec.MaxTensionN, SWBPNPerM: sec.MaxSWBPNPerM,
-				AddedFrom: sec.StartAdded, AddedTo: sec.EndAdded, WithinRating: sec.WithinRating, Reason: sec.Reason}
+				AddedFrom: sec.StartAdded, AddedTo: sec.EndAdded, WithinRating: sec.WithinRating, Over: sec.Over}
 			var fromKey, toKey string
 			ps.From, fromKey = name(start)
 			ps.To, toKey = name(end)
@@ -422,7 +450,7 @@ func (r *run) pullPlan(i int) legPulls {
 			}
 			if !sec.WithinRating {
 				e.warnings = append(e.warnings, fmt.Sprintf("%s %s: pull %d from %s to %s: %s; reroute or add a structure",
-					leg.Link.ID, leg.Name, seq, ps.From, ps.To, sec.Reason))
+					leg.Link.ID, leg.Name, seq, ps.From, ps.To, sec.Reason()))
 			}
 			e.sections = append(e.sections, ps)
 		}

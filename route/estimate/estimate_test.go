@@ -15,6 +15,7 @@ import (
 
 	"spanwright/geo"
 	"spanwright/media"
+	"spanwright/media/install"
 	"spanwright/route"
 	"spanwright/route/estimate"
 	"spanwright/route/internal/testplan"
@@ -72,7 +73,7 @@ func TestPullTensionByHand(t *testing.T) {
 	}
 	for n, wt := range wants {
 		g := got[n]
-		if g.From != wt.from || g.To != wt.to || g.FeedAt != wt.feed {
+		if g.From.String() != wt.from || g.To.String() != wt.to || g.FeedAt.String() != wt.feed {
 			t.Errorf("section %d: got %s → %s fed at %s, want %s → %s fed at %s", n+1, g.From, g.To, g.FeedAt, wt.from, wt.to, wt.feed)
 		}
 		if math.Abs(g.LengthM-wt.lengthM) > 1e-6 || math.Abs(g.BendDeg-wt.bend) > 0.01 {
@@ -111,13 +112,13 @@ func TestPullPointAdded(t *testing.T) {
 	places := map[string]bool{}
 	for _, p := range r.Estimate.Pulls {
 		if p.LengthM > 100+1e-9 || !p.WithinRating {
-			t.Errorf("pull %s → %s: %.1f m, within %v (%s)", p.From, p.To, p.LengthM, p.WithinRating, p.Reason)
+			t.Errorf("pull %s → %s: %.1f m, within %v (%s)", p.From, p.To, p.LengthM, p.WithinRating, install.Why(p.Over, install.Units{}))
 		}
 		if p.AddedFrom {
-			places[p.From] = true
+			places[p.From.String()] = true
 		}
 		if p.AddedTo {
-			places[p.To] = true
+			places[p.To.String()] = true
 		}
 	}
 	if len(places) != r.Estimate.AddedPullPoints {
@@ -135,7 +136,7 @@ func TestPullPointAdded(t *testing.T) {
 	var over []string
 	for _, p := range r.Estimate.Pulls {
 		if p.Leg == i && !p.WithinRating {
-			over = append(over, p.Reason)
+			over = append(over, install.Why(p.Over, install.Units{}))
 		}
 	}
 	// A single 90° bend cannot be split: each bend becomes its own section, out of rating.
@@ -195,7 +196,7 @@ func TestReelJoinsInLossBudget(t *testing.T) {
 		t.Errorf("closures: got %v, want %v", got, joins)
 	}
 	if l, ok := testplan.BOMLine(cut.Estimate.BOM, "splice fibre, mid-span joins"); !ok || l.Work != float64(splices) ||
-		!strings.HasPrefix(l.Describe(nil, ""), fmt.Sprintf("splice fibre, mid-span joins: %d at", splices)) {
+		!strings.HasPrefix(l.Describe(nil), fmt.Sprintf("splice fibre, mid-span joins: %d at", splices)) {
 		t.Errorf("splicing labour: got %+v", l)
 	}
 	if _, ok := testplan.BOMLine(base.Estimate.BOM, "splice closure"); ok {
@@ -596,10 +597,10 @@ func TestPullSidewallLimit(t *testing.T) {
 	for _, p := range low.Estimate.Pulls {
 		switch {
 		case p.SWBPNPerM <= limit+1e-9:
-		case !p.WithinRating && strings.Contains(p.Reason, "sidewall pressure"):
+		case !p.WithinRating && strings.Contains(install.Why(p.Over, install.Units{}), "sidewall pressure"):
 			changed = true
 		default:
-			t.Errorf("pull %s → %s: sidewall pressure %.1f N/m over the %.1f N/m limit, within %v (%s)", p.From, p.To, p.SWBPNPerM, limit, p.WithinRating, p.Reason)
+			t.Errorf("pull %s → %s: sidewall pressure %.1f N/m over the %.1f N/m limit, within %v (%s)", p.From, p.To, p.SWBPNPerM, limit, p.WithinRating, install.Why(p.Over, install.Units{}))
 		}
 	}
 	if !changed {

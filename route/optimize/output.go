@@ -165,6 +165,24 @@ func (sv *solver) reason(d int) (string, []OptionFailure) {
 	s, t := sv.from[d], sv.to[d]
 	var msgs []string
 	var fails []OptionFailure
+	// free is the tree of shortest paths to t over every usable edge, built once for the
+	// options that no path on their own edges joins: which of their excluded edges lie on
+	// the way (OptionFailure.BlockFlags), or that no path joins the ends at all.
+	var free *tree
+	blocking := func(excl uint64) (uint64, bool) {
+		if free == nil {
+			all := sv.lenFor(0)
+			free = buildTree(sv.srch, t, func(e int32) (int64, bool) { return all[e], all[e] >= 0 })
+		}
+		if free.dist[s] < 0 {
+			return 0, false
+		}
+		var on uint64
+		for _, h := range free.pathFrom(sv.net, s) {
+			on |= sv.p.Edges[h.Edge].Flags & excl
+		}
+		return on, true
+	}
 	for o := range dm.Options {
 		op := &dm.Options[o]
 		name := fmt.Sprintf("option %d (%q)", o, op.Name)
@@ -178,16 +196,21 @@ func (sv *solver) reason(d int) (string, []OptionFailure) {
 		f := OptionFailure{Option: o, Name: op.Name}
 		// Joined only through a node that routes may not pass (Problem.NoTransit).
 		const via = " without passing through a transit-free node"
+		var block uint64
+		joined := true
+		if excl != 0 && (comp[s] != comp[t] || lt.dist[s] < 0) {
+			block, joined = blocking(excl)
+		}
 		switch {
-		case comp[s] != comp[t] && excl != 0:
-			f.Kind, f.ExcludeFlags = FailNoPathFlags, excl
-			msgs = append(msgs, fmt.Sprintf("%s: no pathway joins its two ends on the edges this option may use (it excludes edges flagged %#x)", name, excl))
+		case comp[s] != comp[t] && excl != 0 && joined:
+			f.Kind, f.ExcludeFlags, f.BlockFlags = FailNoPathFlags, excl, block
+			msgs = append(msgs, fmt.Sprintf("%s: no pathway joins its two ends on the edges this option may use (it excludes edges flagged %#x, %#x on the shortest path)", name, excl, block))
 		case comp[s] != comp[t]:
 			f.Kind = FailNoPath
 			msgs = append(msgs, fmt.Sprintf("%s: no pathway joins its two ends", name))
-		case lt.dist[s] < 0 && excl != 0:
-			f.Kind, f.ExcludeFlags = FailNoPathFlags, excl
-			msgs = append(msgs, fmt.Sprintf("%s: no pathway joins its two ends on the edges this option may use (it excludes edges flagged %#x)%s", name, excl, via))
+		case lt.dist[s] < 0 && excl != 0 && joined:
+			f.Kind, f.ExcludeFlags, f.BlockFlags = FailNoPathFlags, excl, block
+			msgs = append(msgs, fmt.Sprintf("%s: no pathway joins its two ends on the edges this option may use (it excludes edges flagged %#x, %#x on the shortest path)%s", name, excl, block, via))
 		case lt.dist[s] < 0:
 			f.Kind = FailNoPath
 			msgs = append(msgs, fmt.Sprintf("%s: no pathway joins its two ends%s", name, via))

@@ -117,10 +117,14 @@ const (
 type OptionFailure struct {
 	Option       int
 	Name         string
-	Kind         string  // FailNoPath, FailNoPathFlags, FailReach or FailDucts
-	ExcludeFlags uint64  // the option's, for FailNoPathFlags
-	ShortestM    float64 // for FailReach: the shortest usable path, in metres
-	ReachM       float64 // for FailReach: the option's MaxRouteM
+	Kind         string // FailNoPath, FailNoPathFlags, FailReach or FailDucts
+	ExcludeFlags uint64 // the option's, for FailNoPathFlags
+	// BlockFlags, for FailNoPathFlags, are those of ExcludeFlags on the shortest path between
+	// the demand's ends over every edge: what on the way the link would take keeps the
+	// option out, not every kind of edge it may not use.
+	BlockFlags uint64
+	ShortestM  float64 // for FailReach: the shortest usable path, in metres
+	ReachM     float64 // for FailReach: the option's MaxRouteM
 }
 
 // EdgeFill is the load of one edge that carries at least one cable.

@@ -46,13 +46,14 @@ func TestInvalidProblem(t *testing.T) {
 // others are routed.
 func TestInfeasibleDemands(t *testing.T) {
 	t.Parallel()
-	p := &Problem{Nodes: 5, Edges: []Edge{
+	p := &Problem{Nodes: 6, Edges: []Edge{
 		{ID: "a", From: 0, To: 1, LengthM: 300},
 		{ID: "b", From: 1, To: 2, LengthM: 300, Flags: FlagHighEMI},
 		{ID: "island", From: 3, To: 4, LengthM: 10},
+		{ID: "yard", From: 0, To: 5, LengthM: 50, Flags: FlagOutdoor},
 	}}
 	om4 := Option{Name: "om4", CablePerMCents: 400, MaxRouteM: 400}
-	cu := Option{Name: "cat6a", CablePerMCents: 150, MaxRouteM: 90, ExcludeFlags: FlagHighEMI}
+	cu := Option{Name: "cat6a", CablePerMCents: 150, MaxRouteM: 90, ExcludeFlags: FlagHighEMI | FlagOutdoor}
 	p.Demands = []Demand{
 		{ID: "ok", Source: 1, Target: 0, Options: []Option{om4}},
 		{ID: "too far", Source: 2, Target: 0, Options: []Option{om4}},
@@ -60,6 +61,7 @@ func TestInfeasibleDemands(t *testing.T) {
 		{ID: "emi", Source: 2, Target: 1, Options: []Option{cu}},
 		{ID: "bad node", Source: 9, Target: 0, Options: []Option{om4}},
 		{ID: "no options", Source: 1, Target: 0},
+		{ID: "copper island", Source: 3, Target: 0, Options: []Option{cu}},
 	}
 	sol, err := Solve(p, Settings{})
 	if err != nil {
@@ -69,9 +71,25 @@ func TestInfeasibleDemands(t *testing.T) {
 	want := map[string]string{
 		"too far":    `option 0 ("om4"): shortest route 600.000 m exceeds reach 400.000 m`,
 		"island":     `option 0 ("om4"): no pathway joins its two ends`,
-		"emi":        `option 0 ("cat6a"): no pathway joins its two ends on the edges this option may use (it excludes edges flagged 0x1)`,
-		"bad node":   `source: want node index in [0, 5), got 9`,
+		"emi":        `option 0 ("cat6a"): no pathway joins its two ends on the edges this option may use (it excludes edges flagged 0x3, 0x1 on the shortest path)`,
+		"bad node":   `source: want node index in [0, 6), got 9`,
 		"no options": `no candidate medium`,
+		// No path at all, whatever the option may use: not a matter of its excluded edges.
+		"copper island": `option 0 ("cat6a"): no pathway joins its two ends`,
+	}
+	// What keeps copper out of the emi demand is the high-EMI edge on its way, not the
+	// outdoor edge elsewhere that it may not use either.
+	kinds := map[string]OptionFailure{}
+	for _, inf := range sol.Infeasible {
+		if len(inf.Options) > 0 {
+			kinds[inf.ID] = inf.Options[0]
+		}
+	}
+	if f := kinds["emi"]; f.Kind != FailNoPathFlags || f.ExcludeFlags != FlagHighEMI|FlagOutdoor || f.BlockFlags != FlagHighEMI {
+		t.Errorf("emi: got %+v, want %s with block flags %#x only", f, FailNoPathFlags, FlagHighEMI)
+	}
+	if f := kinds["copper island"]; f.Kind != FailNoPath {
+		t.Errorf("copper island: got %+v, want %s", f, FailNoPath)
 	}
 	if !sol.Routes[0].Feasible {
 		t.Errorf("demand ok: not routed")

@@ -70,10 +70,7 @@ func qtyDecimals(unit string) int {
 
 // describe is a BOM line's item at the output edge, labour work in feet when imperial.
 func describe(opt WriteOptions, l media.BOMLine) string {
-	if opt.imperial() {
-		return l.Describe(install.MToFt, "ft")
-	}
-	return l.Describe(nil, "")
+	return l.Describe(func(m float64) string { return LengthText(opt, m) })
 }
 
 func pct(bp int64) string { return strconv.FormatFloat(float64(bp)/100, 'f', 2, 64) }
@@ -384,12 +381,12 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 	}
 	for _, p := range r.Estimate.Pulls {
 		l := &r.Legs[p.Leg]
-		pulls.Append(workbook.Text(l.Link.ID), workbook.Text(l.Name), workbook.Int(int64(p.Seq)), workbook.Text(p.From),
-			workbook.Text(p.To), workbook.Text(p.FeedAt), workbook.Text(strings.Join(p.Spans, " ")),
+		pulls.Append(workbook.Text(l.Link.ID), workbook.Text(l.Name), workbook.Int(int64(p.Seq)), workbook.Text(PointText(opt, p.From)),
+			workbook.Text(PointText(opt, p.To)), workbook.Text(PointText(opt, p.FeedAt)), workbook.Text(strings.Join(p.Spans, " ")),
 			workbook.Number(u.m(p.StartM), 1), workbook.Number(u.m(p.LengthM), 1), workbook.Number(p.BendDeg, 1),
 			workbook.Number(u.m(p.BendRadiusM), 2), workbook.Number(u.n(p.TensionN), 1), workbook.Number(u.n(p.OtherN), 1),
 			workbook.Number(u.n(p.RatedN), 1), workbook.Number(100*p.TensionN/p.RatedN, 1), workbook.Number(u.nPerM(p.SWBPNPerM), 1),
-			workbook.Bool(p.AddedFrom), workbook.Bool(p.AddedTo), workbook.Bool(p.WithinRating), workbook.Text(p.Reason))
+			workbook.Bool(p.AddedFrom), workbook.Bool(p.AddedTo), workbook.Bool(p.WithinRating), workbook.Text(install.Why(p.Over, PullUnits(opt))))
 	}
 	for _, f := range r.Estimate.Fill {
 		ods := make([]string, len(f.CablesODMM))

@@ -10,6 +10,8 @@ import (
 	"path/filepath"
 	"slices"
 	"spanwright/media"
+	"spanwright/media/install"
+	"spanwright/route/estimate"
 	"spanwright/route/internal/testplan"
 	"spanwright/route/plan"
 	"spanwright/route/workbook"
@@ -496,5 +498,80 @@ for ws in f.worksheets:
 				}
 			}
 		})
+	}
+}
+
+// TestAddedPullPointInUnits: a pull point the plan adds on a span keeps its place as a number
+// (estimate.PullPoint.AtM) and is written in the run's units where it reaches a person: the
+// pull sections sheet of an imperial run gives its offset in feet (1 ft = 0.3048 m exactly,
+// NIST SP 811 B.8), a metric run in metres.
+func TestAddedPullPointInUnits(t *testing.T) {
+	t.Parallel()
+	r, err := testplan.PullSolve(t, 100, 2, func(p *plan.Plan) { p.Design.PullMaxM = 100 })
+	if err != nil {
+		t.Fatal(err)
+	}
+	var at estimate.PullPoint
+	for _, p := range r.Estimate.Pulls {
+		if p.AddedTo && p.To.Span != "" {
+			at = p.To
+			break
+		}
+	}
+	if at.Span == "" {
+		t.Fatal("no pull point added on a span")
+	}
+	ft := strconv.FormatFloat(at.AtM/0.3048, 'f', 1, 64)
+	m := strconv.FormatFloat(at.AtM, 'f', 1, 64)
+	for _, tc := range []struct {
+		name string
+		opt  WriteOptions
+		want string
+	}{
+		{"imperial", WriteOptions{Units: UnitsImperial}, "new handhole on " + at.Span + " at " + ft + " ft"},
+		{"metric", WriteOptions{}, "new handhole on " + at.Span + " at " + m + " m"},
+	} {
+		if got := PointText(tc.opt, at); got != tc.want {
+			t.Errorf("%s: got %q, want %q", tc.name, got, tc.want)
+		}
+		files, err := Files(context.Background(), r, WriteOptions{Units: tc.opt.Units, SkipGeoPackage: true})
+		if err != nil {
+			t.Fatal(err)
+		}
+		x, err := workbook.Open(testplan.FileOf(t, files, "bom.xlsx"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		found, metres := false, false
+		for row := 2; ; row++ {
+			from, _ := x.Value("pull sections", "D"+strconv.Itoa(row))
+			to, _ := x.Value("pull sections", "E"+strconv.Itoa(row))
+			if from == "" && to == "" {
+				break
+			}
+			found = found || to == tc.want || from == tc.want
+			metres = metres || tc.opt.Units == UnitsImperial && (strings.HasSuffix(from, " m") || strings.HasSuffix(to, " m"))
+		}
+		x.Close()
+		if !found || metres {
+			t.Errorf("%s: pull sections sheet: %q found %v, a point in metres %v", tc.name, tc.want, found, metres)
+		}
+	}
+}
+
+// TestPullUnits: why a pull is over its limits is written in the run's units, as the pull
+// sheet's columns are: feet, pound-force and lbf/ft when imperial (NIST SP 811 B.8), SI
+// otherwise.
+func TestPullUnits(t *testing.T) {
+	t.Parallel()
+	over := []install.Excess{{Limit: install.OverTension, Value: 3000, Max: 2670}, {Limit: install.OverSidewall, Value: 1800, Max: 1460},
+		{Limit: install.OverLength, Value: 160.24, Max: 150}}
+	imp := "tension 674.4 lbf over rating 600.2 lbf; sidewall pressure 123.3 lbf/ft over 100.0 lbf/ft; length 525.7 ft over 492.1 ft between pull points"
+	if got := install.Why(over, PullUnits(WriteOptions{Units: UnitsImperial})); got != imp {
+		t.Errorf("imperial: got %q, want %q", got, imp)
+	}
+	si := "tension 3000.0 N over rating 2670.0 N; sidewall pressure 1800.0 N/m over 1460.0 N/m; length 160.2 m over 150.0 m between pull points"
+	if got := install.Why(over, PullUnits(WriteOptions{})); got != si {
+		t.Errorf("metric: got %q, want %q", got, si)
 	}
 }

@@ -343,10 +343,10 @@ func TestGeoPackagePullPoints(t *testing.T) {
 	named := map[string]bool{}
 	for _, p := range r.Estimate.Pulls {
 		if p.AddedFrom {
-			named[p.From] = true
+			named[p.From.String()] = true
 		}
 		if p.AddedTo {
-			named[p.To] = true
+			named[p.To.String()] = true
 		}
 	}
 	pts := addedPullPoints(r)

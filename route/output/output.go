@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"encoding/json"
+	"errors"
 	"fmt"
 	"io"
 	"maps"
@@ -345,6 +346,20 @@ func InUnits(opt WriteOptions, text string) string {
 	})
 }
 
+// InfeasibleInUnits is err with the reasons of a route.InfeasibleError written in the run's
+// units (InUnits), as the terminal's own list of infeasible legs; any other err unchanged.
+func InfeasibleInUnits(opt WriteOptions, err error) error {
+	var ie *route.InfeasibleError
+	if !opt.imperial() || !errors.As(err, &ie) {
+		return err
+	}
+	legs := make([]string, len(ie.Legs))
+	for i, l := range ie.Legs {
+		legs[i] = InUnits(opt, l)
+	}
+	return &route.InfeasibleError{Legs: legs}
+}
+
 // passageHead names links.csv's columns of passageText.
 var passageHead = []string{"from_entrance", "to_entrance", "crosses", "turns"}
 
@@ -451,9 +466,20 @@ func (s Summary) HasBill() bool { return s.CostByCategory != nil }
 // CostDriver is one of the largest lines of the bill of materials.
 type CostDriver struct {
 	Category string  `json:"category"`
-	Item     string  `json:"item"`
+	Item     string  `json:"item"` // in metres: summary.json is for programs (ItemText for people)
 	Cents    int64   `json:"cents"`
 	Pct      float64 `json:"pct_of_subtotal"`
+	line     media.BOMLine
+}
+
+// ItemText is the driver's item for a person, a labour line's work and rate written by
+// length (a number of metres with its unit, in the output's units); Item for a driver not
+// made by Summarize.
+func (d CostDriver) ItemText(length func(m float64) string) string {
+	if d.line.Item == "" {
+		return d.Item
+	}
+	return d.line.Describe(length)
 }
 
 // newWorkM is the plan's new civil work in metres (Construction.NewM), 0 without an estimate.
@@ -514,7 +540,7 @@ func Summarize(r *route.Result) Summary {
 			s.CostByCategory[c.Category] = c.Cents
 		}
 		for _, l := range b.Largest(5) {
-			d := CostDriver{Category: l.Category, Item: l.Describe(nil, ""), Cents: l.ExtendedCents}
+			d := CostDriver{Category: l.Category, Item: l.Describe(nil), Cents: l.ExtendedCents, line: l}
 			if b.SubtotalCents > 0 {
 				d.Pct = round1(100 * float64(l.ExtendedCents) / float64(b.SubtotalCents))
 			}
@@ -600,10 +626,10 @@ func GapText(gapPct *float64) string {
 // lengths and forces in the units of opt.
 func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 	s := Summarize(r)
-	unit, force := "m", "N"
-	length := func(m float64) string { return ftOrM(opt, m, 1) + " " + unit }
+	force := "N"
+	length := func(m float64) string { return LengthText(opt, m) }
 	if opt.imperial() {
-		unit, force = "ft", "lbf"
+		force = "lbf"
 	}
 	t := escape.Terminal // ids and names from the input, each within a line
 	fmt.Fprintf(w, "plan %q: hub %s, %s, %s, %s of route\n", s.Scenario, t(s.Hub), Counted(s.Links, "link", "links"), Counted(s.Legs, "leg", "legs"), length(s.TotalRouteM))
@@ -621,7 +647,7 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 				fmt.Fprintf(w, "  and %d more; links.csv lists every leg with its reason\n", s.Infeasible-shown)
 				break
 			}
-			fmt.Fprintf(w, "  %s/%s: %s\n", t(l.Link.ID), t(l.Name), t(l.Reason))
+			fmt.Fprintf(w, "  %s/%s: %s\n", t(l.Link.ID), t(l.Name), t(InUnits(opt, l.Reason)))
 			shown++
 		}
 	}
@@ -706,7 +732,7 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 			tn, rated = install.NToLbf(tn), install.NToLbf(rated)
 		}
 		fmt.Fprintf(w, "pulling: %s, %d over rating; highest %.1f %s of %.1f %s rated (%s %s, from %s to %s)\n",
-			Counted(s.PullSections, "pull section", "pull sections"), s.PullsOverRating, tn, force, rated, force, t(r.Legs[hi.Leg].Link.ID), t(r.Legs[hi.Leg].Name), t(hi.From), t(hi.To))
+			Counted(s.PullSections, "pull section", "pull sections"), s.PullsOverRating, tn, force, rated, force, t(r.Legs[hi.Leg].Link.ID), t(r.Legs[hi.Leg].Name), t(PointText(opt, hi.From)), t(PointText(opt, hi.To)))
 	}
 	b := e.BOM
 	var cats []string
@@ -756,6 +782,35 @@ func DemoPrices(r *route.Result) bool {
 	return r.Engine != nil && r.Engine.PriceBook().File == media.DefaultPricesFile
 }
 
+// LengthText writes a length for a person, with its unit: metres, or feet when imperial,
+// with one decimal ("12.3 m", "40.4 ft").
+func LengthText(opt WriteOptions, m float64) string {
+	if opt.imperial() {
+		return ftOrM(opt, m, 1) + " ft"
+	}
+	return ftOrM(opt, m, 1) + " m"
+}
+
+// PointText writes a pull point for a person, an added handhole's place on its span in the
+// run's units (estimate.PullPoint.Text).
+func PointText(opt WriteOptions, p estimate.PullPoint) string {
+	return p.Text(func(m float64) string { return LengthText(opt, m) })
+}
+
+// PullUnits writes the figures of a pull's excesses (install.Excess) for a person: metres,
+// newtons and N/m, or feet, pound-force and lbf/ft when imperial, with one decimal.
+func PullUnits(opt WriteOptions) install.Units {
+	if !opt.imperial() {
+		return install.Units{}
+	}
+	one := func(v float64, unit string) string { return strconv.FormatFloat(v, 'f', 1, 64) + " " + unit }
+	return install.Units{
+		Length:   func(m float64) string { return LengthText(opt, m) },
+		Force:    func(n float64) string { return one(install.NToLbf(n), "lbf") },
+		Pressure: func(v float64) string { return one(install.NPerMToLbfPerFt(v), "lbf/ft") },
+	}
+}
+
 // ftOrM formats a length for an output edge: metres, or feet when imperial.
 func ftOrM(opt WriteOptions, m float64, decimals int) string {
 	if opt.imperial() {
@@ -764,7 +819,8 @@ func ftOrM(opt WriteOptions, m float64, decimals int) string {
 	return strconv.FormatFloat(m, 'f', decimals, 64)
 }
 
-// PrintCheck writes a check report as aligned text; lengths in metres, or feet when imperial.
+// PrintCheck writes a check report as aligned text; lengths in metres, or feet when imperial
+// (those inside the texts of cut-off buildings, near misses and warnings by InUnits).
 func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
 	t := escape.Terminal // ids and names from the input, each within a line
 	unit, scale := "m", 1.0
@@ -775,7 +831,7 @@ func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
 	fmt.Fprintf(w, "structures  %d\n", r.Structures)
 	fmt.Fprintf(w, "junctions   %d\n", r.Junctions)
 	fmt.Fprintf(w, "spans       %d\n", r.Spans)
-	fmt.Fprintf(w, "components  %d (holding buildings)\n", r.Components)
+	fmt.Fprintln(w, piecesLine(r))
 	fmt.Fprintln(w, "pathways:")
 	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', tabwriter.AlignRight)
 	fmt.Fprintf(tw, "  type\tstatus\tcount\tlength %s\t\n", unit)
@@ -796,7 +852,7 @@ func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
 	default:
 		fmt.Fprintf(w, "hub         %s: %s cannot reach it: %s\n", t(r.Hub), Counted(len(r.Unreachable), "building", "buildings"), escape.TerminalList(r.Unreachable))
 		for _, why := range r.CutOff {
-			fmt.Fprintf(w, "  cut off: %s\n", t(why))
+			fmt.Fprintf(w, "  cut off: %s\n", t(InUnits(opt, why)))
 		}
 	}
 	if len(r.ThroughOnly) > 0 {
@@ -828,13 +884,41 @@ func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
 	}
 	fmt.Fprintf(w, "near misses %d\n", len(r.NearMisses))
 	for _, m := range r.NearMisses {
-		fmt.Fprintf(w, "  %s\n", t(m))
+		fmt.Fprintf(w, "  %s\n", t(InUnits(opt, m)))
 	}
 	fmt.Fprintf(w, "warnings    %d\n", len(r.Warnings))
 	for _, m := range r.Warnings {
-		fmt.Fprintf(w, "  warning: %s\n", t(m))
+		fmt.Fprintf(w, "  warning: %s\n", t(InUnits(opt, m)))
 	}
 	return nil
+}
+
+// ShownOffPiece is the most buildings off the hub's piece of the network that check's
+// network line names; the hub line below it lists them all.
+const ShownOffPiece = 5
+
+// piecesLine is check's line on how many separate pieces of the pathway network hold
+// buildings (site.CheckReport.Components) and, when the campus is in more than one, how many
+// buildings cannot reach the hub's piece and the first ShownOffPiece of them.
+func piecesLine(r site.CheckReport) string {
+	const head = "network     "
+	switch {
+	case r.Components == 0:
+		return head + "no pathway reaches a building"
+	case r.Components == 1:
+		return head + "in one piece: every pathway that reaches a building joins the others"
+	}
+	line := fmt.Sprintf("%sin %d separate pieces that each hold buildings", head, r.Components)
+	if r.Hub == "" || len(r.Unreachable) == 0 {
+		return line
+	}
+	ids := r.Unreachable[:min(len(r.Unreachable), ShownOffPiece)]
+	more := ""
+	if n := len(r.Unreachable) - len(ids); n > 0 {
+		more = fmt.Sprintf(" and %d more", n)
+	}
+	return fmt.Sprintf("%s; %s off the hub's piece: %s%s", line, Counted(len(r.Unreachable), "building is", "buildings are"),
+		escape.TerminalList(ids), more)
 }
 
 // Counted is n and the words that go with it: one for a count of one, many for any other

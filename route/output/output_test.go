@@ -4,12 +4,15 @@ import (
 	"bytes"
 	"context"
 	"encoding/csv"
+	"errors"
 	"math"
 	"slices"
+	"spanwright/route"
 	"spanwright/route/internal/testplan"
 	"spanwright/route/internal/testsite"
 	"spanwright/route/plan"
 	"spanwright/route/routing"
+	"spanwright/route/site"
 	"strconv"
 	"strings"
 	"testing"
@@ -145,5 +148,50 @@ func TestReasonsInUnits(t *testing.T) {
 		if m := metresText.FindString(row[reason]); m != "" {
 			t.Errorf("%s %s: imperial reason still says %q", row[0], row[1], m)
 		}
+	}
+}
+
+// TestPiecesLine: check's network line says how many separate pieces of the pathway network
+// hold buildings, never a bare number that reads as a count of buildings, and when there are
+// several, how many buildings are off the hub's piece with the first ShownOffPiece of them.
+func TestPiecesLine(t *testing.T) {
+	t.Parallel()
+	off := []string{"B1", "B2", "B3", "B4", "B5", "B6", "B7"}
+	cases := []struct {
+		name string
+		r    site.CheckReport
+		want string
+	}{
+		{"one piece", site.CheckReport{Components: 1, Hub: "H"}, "network     in one piece: every pathway that reaches a building joins the others"},
+		{"no piece", site.CheckReport{}, "network     no pathway reaches a building"},
+		{"two pieces, one off", site.CheckReport{Components: 2, Hub: "H", Unreachable: off[:1]},
+			"network     in 2 separate pieces that each hold buildings; 1 building is off the hub's piece: [B1]"},
+		{"three pieces, seven off", site.CheckReport{Components: 3, Hub: "H", Unreachable: off},
+			"network     in 3 separate pieces that each hold buildings; 7 buildings are off the hub's piece: [B1 B2 B3 B4 B5] and 2 more"},
+		{"two pieces, no hub", site.CheckReport{Components: 2}, "network     in 2 separate pieces that each hold buildings"},
+	}
+	for _, tc := range cases {
+		if got := piecesLine(tc.r); got != tc.want {
+			t.Errorf("%s: got %q, want %q", tc.name, got, tc.want)
+		}
+	}
+}
+
+// TestInfeasibleInUnits: the reasons of the infeasible legs that plan returns as its error
+// (printed on stderr) are in the run's units, as the terminal's list and links.csv are
+// (1 ft = 0.3048 m exactly, NIST SP 811 B.8), and the error still means infeasible legs.
+func TestInfeasibleInUnits(t *testing.T) {
+	t.Parallel()
+	in := &route.InfeasibleError{Legs: []string{"L-1/primary: om4: the shortest route it may use is 612.3 m along pathways, beyond the 400.0 m it reaches there"}}
+	err := InfeasibleInUnits(WriteOptions{Units: UnitsImperial}, in)
+	want := "L-1/primary: om4: the shortest route it may use is 2008.9 ft along pathways, beyond the 1312.3 ft it reaches there"
+	if !errors.Is(err, route.ErrInfeasible) || !strings.Contains(err.Error(), want) {
+		t.Errorf("imperial: got %v, want it to contain %q and mean infeasible legs", err, want)
+	}
+	if got := InfeasibleInUnits(WriteOptions{}, in); got != error(in) {
+		t.Errorf("metric: got %v, want the error unchanged", got)
+	}
+	if got := InfeasibleInUnits(WriteOptions{Units: UnitsImperial}, nil); got != nil {
+		t.Errorf("no error: got %v", got)
 	}
 }

@@ -23,6 +23,22 @@ func (o Options) lengthUnit() string {
 	return "m"
 }
 
+// forceUnit is the unit forces are shown in.
+func (o Options) forceUnit() string {
+	if o.imperial() {
+		return "lbf"
+	}
+	return "N"
+}
+
+// sidewallUnit is the unit sidewall bearing pressure is shown in.
+func (o Options) sidewallUnit() string {
+	if o.imperial() {
+		return "lbf/ft"
+	}
+	return "N/m"
+}
+
 // length formats metres in the report's unit with one decimal and thousands separators.
 func (o Options) length(m float64) string {
 	if o.imperial() {

@@ -210,6 +210,7 @@ type planView struct {
 	PullsOver  int
 	PullPoints int
 	Force      string
+	Sidewall   string // the unit of sidewall pressure: N/m, or lbf/ft when imperial
 	Drivers    []driverRow
 	BOMLabel   string
 	Subtotal   string
@@ -472,15 +473,16 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 		v.Pulls, v.PullsOver, v.PullsListed = pullRows(r, opt)
 		v.PullPoints = e.AddedPullPoints
 		for _, d := range s.CostDrivers {
-			v.Drivers = append(v.Drivers, driverRow{Category: d.Category, Item: d.Item, Cost: money(d.Cents),
+			v.Drivers = append(v.Drivers, driverRow{Category: d.Category, Item: d.ItemText(opt.lengthU), Cost: money(d.Cents),
 				Pct: strconv.FormatFloat(d.Pct, 'f', 1, 64) + " %"})
 		}
 	}
-	v.Force = "N"
-	if opt.imperial() {
-		v.Force = "lbf"
+	v.Force, v.Sidewall = opt.forceUnit(), opt.sidewallUnit()
+	// Warnings are text made inside the model in metres (summary.json keeps them so): the
+	// report writes their lengths in its units, as it does the rule engine's reasons.
+	for _, w := range r.Warnings {
+		v.Warnings = append(v.Warnings, output.InUnits(output.WriteOptions{Units: opt.Units}, w))
 	}
-	v.Warnings = append([]string(nil), r.Warnings...)
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
@@ -510,11 +512,13 @@ func costBars(r *route.Result) ([]bar, string) {
 	}
 	var cats []cat
 	if e := r.Estimate; e != nil && e.BOM != nil {
+		// Labels fit the 230 px left of the bars at the chart's 12 px.
 		names := map[string][2]string{
-			media.CategoryMaterial:     {"material (cable, connectivity)", "c-cable"},
+			media.CategoryMaterial:     {"material: cable, connectivity", "c-cable"},
 			media.CategoryLabour:       {"labour", "c-labour"},
-			media.CategoryConstruction: {"construction (trench, duct, structures)", "c-constr"},
-			media.CategoryOptics:       {"optics (transceivers)", "c-optics"},
+			media.CategoryConstruction: {"construction: civil works", "c-constr"},
+			media.CategoryOptics:       {"optics: transceivers", "c-optics"},
+			media.CategoryBidItems:     {"bid items (price book)", "c-extra"},
 		}
 		for _, st := range e.BOM.Subtotal {
 			n, ok := names[st.Category]
@@ -523,8 +527,8 @@ func costBars(r *route.Result) ([]bar, string) {
 			}
 			cats = append(cats, cat{n[0], st.Cents, n[1]})
 		}
-		cats = append(cats, cat{"contingency", e.BOM.ContingencyCents, "c-extra"},
-			cat{"overhead", e.BOM.OverheadCents, "c-extra"}, cat{"tax", e.BOM.TaxCents, "c-extra"})
+		cats = append(cats, cat{"markup: contingency", e.BOM.ContingencyCents, "c-extra"},
+			cat{"markup: overhead", e.BOM.OverheadCents, "c-extra"}, cat{"tax", e.BOM.TaxCents, "c-extra"})
 	} else {
 		// Without a bill of materials: the cost model's breakdown of the legs.
 		var cable, labour, constr, optics int64
@@ -544,11 +548,14 @@ func costBars(r *route.Result) ([]bar, string) {
 			cats = append(cats, cat{"plan level (markups, other)", r.ExtraCents, "c-extra"})
 		}
 	}
-	var top int64 = 1
+	var top, all int64 = 1, 0
 	for _, c := range cats {
 		top = max(top, c.cents)
+		all += c.cents
 	}
-	const full = 420.0
+	// The longest bar, in px: its value and share (about 130 px) still end inside the
+	// chart's 760.
+	const full = 380.0
 	const rowH = 26.0
 	out := make([]bar, len(cats))
 	for i, c := range cats {
@@ -557,7 +564,12 @@ func costBars(r *route.Result) ([]bar, string) {
 			w = full * float64(c.cents) / float64(top)
 		}
 		y := float64(i) * rowH
-		out[i] = bar{Label: c.label, Value: money(c.cents) + " " + r.Currency, W: num(w), Y: num(y + 4),
+		// The amount (the caption gives the currency) and its share of the chart's total.
+		value := money(c.cents)
+		if all > 0 {
+			value += " (" + strconv.FormatFloat(100*float64(c.cents)/float64(all), 'f', 1, 64) + " %)"
+		}
+		out[i] = bar{Label: c.label, Value: value, W: num(w), Y: num(y + 4),
 			TextY: num(y + 17), ValueX: num(230 + w + 6), Class: c.cls}
 	}
 	return out, num(float64(len(cats))*rowH + 4)
@@ -954,6 +966,17 @@ func pullRows(r *route.Result, opt Options) ([]pullRow, int, listed) {
 		}
 		return group(strconv.FormatFloat(n, 'f', 1, 64))
 	}
+	// Sidewall pressure in the table's unit (Options.sidewallUnit), no decimals.
+	sidewall := func(v float64) string {
+		if opt.imperial() {
+			v = install.NPerMToLbfPerFt(v)
+		}
+		return group(strconv.FormatFloat(v, 'f', 0, 64))
+	}
+	// Why a pull is over its limits, in the report's units and formatting.
+	units := install.Units{Length: opt.lengthU,
+		Force:    func(n float64) string { return force(n) + " " + opt.forceUnit() },
+		Pressure: func(v float64) string { return sidewall(v) + " " + opt.sidewallUnit() }}
 	over := countOf(all, func(p estimate.PullSection) bool { return !p.WithinRating })
 	shown := listOf(len(all))
 	out := make([]pullRow, shown.Shown)
@@ -967,11 +990,11 @@ func pullRows(r *route.Result, opt Options) ([]pullRow, int, listed) {
 		if p.AddedTo {
 			added = append(added, "end")
 		}
-		row := pullRow{Link: l.Link.ID, Leg: l.Name, Seq: p.Seq, From: p.From, To: p.To, Spans: strings.Join(p.Spans, " "),
-			Length: opt.length(p.LengthM), Bends: strconv.FormatFloat(p.BendDeg, 'f', 0, 64) + "°", Feed: p.FeedAt,
+		row := pullRow{Link: l.Link.ID, Leg: l.Name, Seq: p.Seq, From: p.From.Text(opt.lengthU), To: p.To.Text(opt.lengthU), Spans: strings.Join(p.Spans, " "),
+			Length: opt.length(p.LengthM), Bends: strconv.FormatFloat(p.BendDeg, 'f', 0, 64) + "°", Feed: p.FeedAt.Text(opt.lengthU),
 			Tension: force(p.TensionN), Other: force(p.OtherN), Rated: force(p.RatedN),
-			BarW: num(math.Min(100*ratio(p), 100)), Pct: pct(ratio(p)), SWBP: group(strconv.FormatFloat(p.SWBPNPerM, 'f', 0, 64)),
-			Added: strings.Join(added, ", "), Over: !p.WithinRating, Reason: p.Reason}
+			BarW: num(math.Min(100*ratio(p), 100)), Pct: pct(ratio(p)), SWBP: sidewall(p.SWBPNPerM),
+			Added: strings.Join(added, ", "), Over: !p.WithinRating, Reason: install.Why(p.Over, units)}
 		out[i] = row
 	}
 	return out, over, shown

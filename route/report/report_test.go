@@ -417,3 +417,41 @@ func TestExtraAndFile(t *testing.T) {
 		t.Error("Extra's file differs from Plan")
 	}
 }
+
+// TestBillInUnitsWithSeparators: the report writes the bill of materials' lengths and the
+// cost chart's money with one formatting of each (Options.lengthU, money: thousands
+// separators), lengths in the run's units (1 ft = 0.3048 m exactly, NIST SP 811 B.8); each
+// bar of the cost chart gives its amount and its share of the total, the caption the currency.
+func TestBillInUnitsWithSeparators(t *testing.T) {
+	r := result(t, demoPlan)
+	html := render(t, demoPlan, Options{Units: output.UnitsImperial})
+	var pull media.BOMLine
+	for _, l := range r.Estimate.BOM.Lines {
+		if l.WorkUnit == media.UnitM && l.Work > pull.Work {
+			pull = l
+		}
+	}
+	if pull.Work < 1000 {
+		t.Fatalf("demo: no labour line of 1,000 m or more: %+v", pull)
+	}
+	ft := group(fmt.Sprintf("%.1f", pull.Work/0.3048))
+	if want := fmt.Sprintf("%s: %s ft at %.1f ft per hour", pull.Item, ft, pull.RatePerHour/0.3048); !strings.Contains(html, want) {
+		t.Errorf("report lacks %q", want)
+	}
+	if !strings.Contains(ft, ",") {
+		t.Errorf("%s ft: no thousands separator", ft)
+	}
+	table := html[strings.Index(html, "Largest lines of the bill of materials"):]
+	table = table[:strings.Index(table, "</table>")]
+	if m := regexp.MustCompile(`\d{4}(\.\d+)? (m|ft)\b`).FindString(table); m != "" {
+		t.Errorf("bill of materials table: %q without separators or in metres", m)
+	}
+	b := r.Estimate.BOM
+	if !strings.Contains(html, "Cost by category, in USD") {
+		t.Errorf("cost chart caption does not give the currency")
+	}
+	share := fmt.Sprintf("%s (%.1f %%)", money(b.ContingencyCents), 100*float64(b.ContingencyCents)/float64(b.TotalCents))
+	if !strings.Contains(html, `class="small">markup: contingency</text>`) || !strings.Contains(html, `class="small">`+share+`</text>`) {
+		t.Errorf("cost chart: contingency not labelled a markup with %q", share)
+	}
+}

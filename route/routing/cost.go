@@ -124,9 +124,11 @@ func (m *Model) allowed(s *site.Site, medium string, rate, future float64, stran
 	return v
 }
 
-// explain puts the optimizer's account of an unroutable demand in the plan's words: options
-// by their medium, excluded edge flags as the span classes the rules keep the medium off.
-func (lay *layout) explain(in optimize.Infeasible) string {
+// explain puts the optimizer's account of link l's unroutable demand in the plan's words:
+// options by their medium and, for a medium no pathway on its own spans joins, the span
+// classes on the shortest way between the link's buildings that the rules keep it off, each
+// with the rule engine's reason (why; whyNot), not every class of the campus it may not use.
+func (lay *layout) explain(in optimize.Infeasible, l *site.Link, why func(medium string, c spanClass) string) string {
 	if len(in.Options) == 0 {
 		return in.Reason
 	}
@@ -136,16 +138,32 @@ func (lay *layout) explain(in optimize.Infeasible) string {
 		case optimize.FailNoPath:
 			msgs[i] = f.Name + ": no pathway joins its two ends"
 		case optimize.FailNoPathFlags:
-			var off []string
-			if f.ExcludeFlags&flagDuct != 0 {
-				off = append(off, "ducts (the cable does not fit the innerduct)")
+			block := f.BlockFlags
+			if block == 0 {
+				block = f.ExcludeFlags // no shortest way known: every class it may not use
 			}
+			// The classes on the way, grouped by the rule that keeps the medium off them, in
+			// the layout's order of classes.
+			var reasons []string
+			on := map[string][]string{}
 			for _, c := range lay.classes {
-				if f.ExcludeFlags&lay.classBit[c] != 0 {
-					off = append(off, c.String())
+				if block&lay.classBit[c] != 0 {
+					r := why(f.Name, c)
+					if on[r] == nil {
+						reasons = append(reasons, r)
+					}
+					on[r] = append(on[r], c.String())
 				}
 			}
-			msgs[i] = f.Name + ": no pathway joins its two ends on the spans its rules allow (it may not run on: " + strings.Join(off, "; ") + ")"
+			var parts []string
+			if block&flagDuct != 0 {
+				parts = append(parts, "ducts, where its cable does not fit the innerduct")
+			}
+			for _, r := range reasons {
+				parts = append(parts, strings.Join(on[r], " and ")+" spans ("+r+")")
+			}
+			msgs[i] = fmt.Sprintf("%s: every pathway between %s and %s runs on spans it may not use; the shortest runs on %s",
+				f.Name, l.From, l.To, strings.Join(parts, "; and on "))
 		case optimize.FailReach:
 			msgs[i] = fmt.Sprintf("%s: the shortest route it may use is %.1f m along pathways, beyond the %.1f m it reaches there", f.Name, f.ShortestM, f.ReachM)
 		default:

@@ -8,6 +8,7 @@ import (
 	"spanwright/route/internal/testsite"
 	"spanwright/route/optimize"
 	"spanwright/route/plan"
+	"spanwright/route/site"
 )
 
 // rulesWith is the default rule file with the rule id dropped (when drop is set) and extra
@@ -104,19 +105,30 @@ func TestOneRuleSource(t *testing.T) {
 }
 
 // TestExplainInfeasible: the optimizer's account of an unroutable link comes out in the
-// plan's words: media by name, excluded edges as the span classes the rules keep them off,
-// no node numbers or flag bits.
+// plan's words: media by name, and for a medium no pathway on its own spans joins, the span
+// classes on the shortest way between the link's buildings that the rules keep it off, each
+// with the rule's reason; not the other classes of the campus it may not use (here the
+// aerial spans, off the way), no node numbers or flag bits.
 func TestExplainInfeasible(t *testing.T) {
 	t.Parallel()
 	emi := spanClass{emi: "high", outdoor: true, typ: "duct"}
 	air := spanClass{emi: "none", outdoor: true, typ: "aerial"}
-	lay := &layout{classes: []spanClass{air, emi}, classBit: map[spanClass]uint64{air: firstClassFlag, emi: firstClassFlag << 1}}
+	bur := spanClass{emi: "none", outdoor: true, typ: "buried"}
+	lay := &layout{classes: []spanClass{air, bur, emi}, classBit: map[spanClass]uint64{air: firstClassFlag, bur: firstClassFlag << 1, emi: firstClassFlag << 2}}
+	why := func(medium string, c spanClass) string {
+		if c.emi == "high" {
+			return medium + " rejected by copper-emi: EMI"
+		}
+		return medium + " rejected by copper-outdoor: outdoors"
+	}
+	all := firstClassFlag | firstClassFlag<<1 | firstClassFlag<<2
 	got := lay.explain(optimize.Infeasible{Reason: "raw", Options: []optimize.OptionFailure{
-		{Name: "cat6a", Kind: optimize.FailNoPathFlags, ExcludeFlags: firstClassFlag<<1 | flagDuct},
+		{Name: "cat6a", Kind: optimize.FailNoPathFlags, ExcludeFlags: all | flagDuct, BlockFlags: firstClassFlag<<1 | firstClassFlag<<2 | flagDuct},
 		{Name: "om4", Kind: optimize.FailReach, ShortestM: 612.34, ReachM: 400},
 		{Name: "os2", Kind: optimize.FailNoPath},
-	}})
-	want := "cat6a: no pathway joins its two ends on the spans its rules allow (it may not run on: ducts (the cable does not fit the innerduct); duct, high EMI); " +
+	}}, &site.Link{From: "ADM", To: "OBS"}, why)
+	want := "cat6a: every pathway between ADM and OBS runs on spans it may not use; the shortest runs on ducts, where its cable does not fit the innerduct; " +
+		"and on buried spans (cat6a rejected by copper-outdoor: outdoors); and on duct, high EMI spans (cat6a rejected by copper-emi: EMI); " +
 		"om4: the shortest route it may use is 612.3 m along pathways, beyond the 400.0 m it reaches there; os2: no pathway joins its two ends"
 	if got != want {
 		t.Errorf("got  %s\nwant %s", got, want)

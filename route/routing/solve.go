@@ -120,7 +120,10 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 	}
 	infeasible := map[int]string{}
 	for _, in := range sol.Infeasible {
-		infeasible[in.Demand] = lay.explain(in)
+		facts := infos[in.Demand].facts
+		infeasible[in.Demand] = lay.explain(in, &links[in.Demand], func(medium string, c spanClass) string {
+			return m.whyNot(medium, facts, c)
+		})
 	}
 	// Each link's legs are its own (the engine's caches are safe for concurrent use, the
 	// rest is read): worked out side by side, assembled in link order.
