@@ -88,23 +88,33 @@ func TestPlanTreesStayExact(t *testing.T) {
 	}
 }
 
-// TestAscentBesideStart: the lower bound's ascent, run beside the first start as Solve runs it
-// (ascendAsync), gives the same dual as run alone before anything else, field for field, from
-// a cold and from a warm start, with and without transit-free buildings and charges; under
-// `go test -race` it also shows that the two goroutines share nothing they write. And a solve
-// on one core equals a solve on all. (The ascent is a function of the problem alone:
-// Balakrishnan, Magnanti & Wong, Operations Research 37(5), 1989.)
-func TestAscentBesideStart(t *testing.T) {
+// TestAscentBesideSearch: the lower bound's ascent, run beside the search as Solve runs it
+// (ascendAsync, taken by joinDual after the first start where the dual steers the search and
+// at the first local optimum where it does not), gives the same dual as run alone before
+// anything else, field for field, from a cold and from a warm start, with and without
+// transit-free buildings and charges; under `go test -race` it also shows that the two
+// goroutines share nothing they write. And a solve on one core equals a solve on all. (The
+// ascent is a function of the problem alone: Balakrishnan, Magnanti & Wong, Operations
+// Research 37(5), 1989.)
+func TestAscentBesideSearch(t *testing.T) {
 	plain := campus(campusSpec{buildings: 120, seed: 5, diverseFrac: 0.2, options: 3, capacity: true, proposedPct: 25})
 	charged := withTransitCharges(campus(campusSpec{buildings: 300, seed: 6, diverseFrac: 0.1, options: 3, capacity: true, proposedPct: 15}), 4)
-	for _, p := range []*Problem{plain, charged} {
+	large := campus(campusSpec{buildings: 300, seed: 6, diverseFrac: 0.1, options: 3, capacity: true, proposedPct: 40})
+	for i, p := range []*Problem{plain, charged, large} {
+		steers := newSolver(p, Settings{}).dualSteers()
+		if want := i < 2; steers != want {
+			t.Fatalf("problem %d (%d demands): the dual steers the search %v, want %v; the test checks the wrong join", i, len(p.Demands), steers, want)
+		}
 		alone := newSolver(p, Settings{}).ascend()
 		if alone == nil || len(alone.wanted) == 0 {
-			t.Fatalf("%d demands: the ascent priced no span; the test checks nothing", len(p.Demands))
+			t.Fatalf("problem %d: the ascent priced no span; the test checks nothing", i)
 		}
 		want, err := Solve(p, Settings{})
 		if err != nil {
 			t.Fatal(err)
+		}
+		if want.LowerBoundCents <= 0 {
+			t.Errorf("problem %d: lower bound %d, want one", i, want.LowerBoundCents)
 		}
 		for _, warm := range []bool{false, true} {
 			opt := Settings{}
@@ -112,14 +122,9 @@ func TestAscentBesideStart(t *testing.T) {
 				opt.Start = StartFrom(want)
 			}
 			sv := newSolver(p, opt)
-			wait := sv.ascendAsync()
-			if warm {
-				sv.startWarm()
-			} else {
-				sv.start(false)
-			}
-			if beside := wait(); !reflect.DeepEqual(alone, beside) {
-				t.Errorf("%d demands, warm %v: the ascent beside the start differs from the ascent alone", len(p.Demands), warm)
+			sv.run()
+			if !reflect.DeepEqual(alone, sv.dual) {
+				t.Errorf("problem %d, warm %v: the ascent beside the search differs from the ascent alone", i, warm)
 			}
 		}
 		// GOMAXPROCS is global: this test does not run in parallel with others.
@@ -130,7 +135,7 @@ func TestAscentBesideStart(t *testing.T) {
 			t.Fatal(err)
 		}
 		if !reflect.DeepEqual(got, want) {
-			t.Errorf("%d demands: the solve with GOMAXPROCS 1 differs from the solve with %d", len(p.Demands), prev)
+			t.Errorf("problem %d: the solve with GOMAXPROCS 1 differs from the solve with %d", i, prev)
 		}
 	}
 }

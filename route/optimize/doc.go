@@ -41,6 +41,6 @@
 //
 // All decisions are deterministic: fixed orders, no map iteration, and one goroutine beside
 // the solve, the lower bound's ascent, which reads only what is fixed before it starts and
-// whose result is taken at a fixed point (after the first start), so the same Problem gives
+// whose result is taken at fixed points of the search (joinDual), so the same Problem gives
 // the same Solution on any machine and any GOMAXPROCS.
 package optimize

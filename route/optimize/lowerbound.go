@@ -139,7 +139,7 @@ func (sv *solver) ascend() *dualBound {
 }
 
 // ascendAsync starts the ascent beside the caller and returns what waits for its result
-// (nil for the length objective). What the ascent reads of the solver is fixed once
+// (nil for the length objective; run keeps it in waitDual, joinDual calls it). What the ascent reads of the solver is fixed once
 // newSolver returns (the problem, the network, the cost profiles, the marks of invalid
 // demands), or set up here before it starts (legCost's table, the free levels from the
 // plain trees, which share the solver's search scratch), and it writes only its own
@@ -176,6 +176,26 @@ func (sv *solver) ascendAsync() func() *dualBound {
 			return nil
 		}
 	}
+}
+
+// joinDual takes the ascent's result (sv.dual) once it is needed: it waits for the ascent
+// started by run, and does nothing after the first call. Until then sv.dual is nil, and the
+// search neither stops on a closed gap nor tries the spans the dual prices. Where it is
+// called is fixed (run, swapMoves, the end of run), never a matter of timing, so the plan is
+// the same however the two goroutines are scheduled.
+func (sv *solver) joinDual() {
+	if sv.waitDual != nil {
+		sv.dual = sv.waitDual()
+		sv.waitDual = nil
+	}
+}
+
+// dualSteers reports whether the dual steers the search from its start: on problems of up to
+// maxDualWork demands × proposed spans, where open moves try the spans it prices
+// (openCandidates) and a closed gap may end the search early. On larger ones the search runs
+// without it until its first local optimum, and the ascent meanwhile on another core.
+func (sv *solver) dualSteers() bool {
+	return len(sv.p.Demands)*len(sv.proposed) <= maxDualWork
 }
 
 // ascendFrom is the ascent from the demands' free levels (-1: no route; 0 for an invalid

@@ -326,7 +326,7 @@ func (sv *solver) openCandidates() []openCand {
 	// The spans the lower bound's dual prices (lowerbound.go): a demand would pay for them,
 	// whether or not they lie on its cheapest route with every span free (a short closure
 	// or gap-fill that pays on its own). Most wanted first.
-	dualCands := sv.dual != nil && len(sv.p.Demands)*len(sv.proposed) <= maxDualWork
+	dualCands := sv.dual != nil && sv.dualSteers()
 	if dualCands {
 		n := 0
 		for _, e := range sv.dual.wanted {
@@ -773,6 +773,7 @@ const swapWidth = 6
 // plan if it is cheaper. A swap that failed is not tried again until one of its demands
 // changes route. The reroutes are bounded by swapBudget × demands per solve.
 func (sv *solver) swapMoves() bool {
+	sv.joinDual()
 	db := sv.dual
 	if db == nil || len(db.wanted) == 0 {
 		return false
@@ -974,15 +975,20 @@ func (sv *solver) place(d int) {
 }
 
 func (sv *solver) run() {
-	// The lower bound is computed beside the first start, which does not use it.
-	bound := sv.ascendAsync()
+	// The lower bound is computed beside the search (ascendAsync) and taken where it is first
+	// needed (joinDual): after the first start on problems whose open moves try the spans it
+	// prices, else at the first local optimum (swapMoves) or at the end.
+	sv.waitDual = sv.ascendAsync()
+	defer sv.joinDual()
 	warm := len(sv.warm) > 0
 	if warm {
 		sv.startWarm()
 	} else {
 		sv.start(false)
 	}
-	sv.dual = bound()
+	if sv.dualSteers() {
+		sv.joinDual()
+	}
 	if !sv.gapClosed() {
 		sv.rounds = sv.improve()
 	}

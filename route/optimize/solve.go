@@ -221,8 +221,10 @@ type solver struct {
 	warm []StartRoute
 	// startUnused are the demands whose start route did not fit (Solution.StartUnused).
 	startUnused []int
-	// dual is the lower bound's ascent (lowerbound.go), nil for the length objective.
-	dual *dualBound
+	// dual is the lower bound's ascent (lowerbound.go), nil for the length objective and
+	// until joinDual takes it from waitDual, which waits for the ascent running beside.
+	dual     *dualBound
+	waitDual func() *dualBound
 }
 
 func newSolver(p *Problem, opt Settings) *solver {
