@@ -52,7 +52,7 @@ func runCheck(ctx context.Context, args []string, db string, maxBytes int64, opt
 	var p *plan.Plan
 	hub := ""
 	if len(args) == 1 && (strings.HasSuffix(args[0], ".yaml") || strings.HasSuffix(args[0], ".yml")) {
-		if p, err = plan.LoadPlanOptions(args[0], plan.LoadOptions{MaxInputBytes: maxBytes, CampusDatabase: db}); err != nil {
+		if p, err = loadPlan(ctx, args[0], plan.LoadOptions{MaxInputBytes: maxBytes, CampusDatabase: db}); err != nil {
 			return err
 		}
 		st, err = site.Load(ctx, nil, campusPaths(p), siteOptions(p))

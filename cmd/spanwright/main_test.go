@@ -144,6 +144,13 @@ func TestBadInput(t *testing.T) {
 		{"unknown hub", []string{"plan", "testdata/plans/unknown_hub.yaml", "--out", "x"}, exitInvalid, []string{`unknown_hub.yaml:3:6: hub: want the id of a building, got "NOPE", which no building has`}},
 		{"unknown link buildings, all reported", []string{"plan", "testdata/plans/unknown_link.yaml", "--out", "x"}, exitInvalid,
 			[]string{`unknown_link.yaml:5:10: links[1].to: unknown building "GHOST"`, `unknown_link.yaml:6:12: links[2].from: unknown building "PHANTOM"`}},
+		// Every problem at once: the plan's own (a misspelt key, a number out of range) and
+		// those only its campus shows (an unknown building), for plan and for check alike.
+		{"plan and campus problems in one run", []string{"plan", "testdata/plans/typo_and_unknown.yaml", "--out", "x"}, exitInvalid,
+			[]string{`typo_and_unknown.yaml:4:3: design.slak_m: unknown key; did you mean slack_m?`, `typo_and_unknown.yaml:5:11: design.snap_m: want metres above 0`,
+				`typo_and_unknown.yaml:8:10: links[1].to: unknown building "GHOST"`, `typo_and_unknown.yaml:8:17: links[1].strandz: unknown key; did you mean strands?`}},
+		{"check: plan and campus problems in one run", []string{"check", "testdata/plans/typo_and_unknown.yaml"}, exitInvalid,
+			[]string{`design.slak_m: unknown key`, `links[1].to: unknown building "GHOST"`}},
 		// A warning's length in the run's units: 0.5 m is 1.6 ft (1 ft = 0.3048 m exactly, NIST SP 811 B.8).
 		{"check in feet", []string{"check", "--units", "imperial", "testdata/plans/island.yaml"}, exitInfeasible,
 			[]string{"building footprint within 1.6 ft (design: snap_m)"}},

@@ -47,7 +47,7 @@ func planCommand() *cli.Command {
 			if err != nil {
 				return err
 			}
-			p, err := plan.LoadPlanOptions(c.Args().First(), plan.LoadOptions{MaxInputBytes: maxBytes, CampusDatabase: c.String(campusDBFlag.Name)})
+			p, err := loadPlan(c.Context, c.Args().First(), plan.LoadOptions{MaxInputBytes: maxBytes, CampusDatabase: c.String(campusDBFlag.Name)})
 			if err != nil {
 				return err
 			}

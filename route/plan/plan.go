@@ -264,16 +264,29 @@ type LoadOptions struct {
 
 // LoadPlanOptions is LoadPlan with the command line's options.
 func LoadPlanOptions(path string, o LoadOptions) (*Plan, error) {
+	p, err := LoadPlanPartial(path, o)
+	if err != nil {
+		return nil, err
+	}
+	return p, nil
+}
+
+// LoadPlanPartial is LoadPlanOptions that, when the file is a plan with problems in its values
+// (an unknown key, a number out of range, a bad choice), returns besides the problems the plan
+// as read, each bad value left at its default: enough to read the campus it names and look
+// for the problems only the campus shows (an unknown building, a hub that is not one), so
+// that a user sees them all at once. The plan is nil when the file could not be read or is
+// not a plan (not YAML, not a mapping, a sweep file); it must never be planned.
+func LoadPlanPartial(path string, o LoadOptions) (*Plan, error) {
 	data, err := input.ReadFile(path, input.Cap(o.MaxInputBytes, input.DefaultTextMiB))
 	if err != nil {
 		return nil, &input.Problem{File: path, Err: fmt.Errorf("read: %w", input.Cause(err)), Class: ErrPlan}
 	}
-	p, err := ParsePlanOptions(path, data, o)
-	if err != nil {
-		return nil, err
+	p, err := parsePlan(path, data, o)
+	if p != nil {
+		p.MaxInputBytes = o.MaxInputBytes
 	}
-	p.MaxInputBytes = o.MaxInputBytes
-	return p, nil
+	return p, err
 }
 
 // ParsePlan reads a plan from data; name is the plan file's path, used for messages and to
@@ -286,13 +299,25 @@ func ParsePlan(name string, data []byte) (*Plan, error) {
 // ParsePlanOptions is ParsePlan with the command line's campus database (o.CampusDatabase;
 // o.MaxInputBytes is not used).
 func ParsePlanOptions(name string, data []byte, o LoadOptions) (*Plan, error) {
+	p, err := parsePlan(name, data, o)
+	if err != nil {
+		return nil, err
+	}
+	return p, nil
+}
+
+// parsePlan is ParsePlanOptions that returns the plan as read beside the problems of its
+// values (LoadPlanPartial); nil when the file is not a plan.
+func parsePlan(name string, data []byte, o LoadOptions) (*Plan, error) {
 	p := Default
 	p.File = name
 	p.Dir = filepath.Dir(name)
 	p.at = map[string]input.Pos{}
 	var errs input.Problems
 	d := &input.Decoder{File: name, Problems: &errs, Class: ErrPlan, Where: p.at, RangeOf: SettingRange}
-	if root := d.Parse(data, &p); root != nil && input.Resolve(root).Kind == yaml.MappingNode {
+	root := d.Parse(data, &p)
+	isPlan := root != nil && input.Resolve(root).Kind == yaml.MappingNode
+	if isPlan {
 		if isSweepFile(p.at) {
 			// Its keys are all unknown to a plan: say what the file is instead.
 			errs = input.Problems{}
@@ -310,7 +335,10 @@ func ParsePlanOptions(name string, data []byte, o LoadOptions) (*Plan, error) {
 	}
 	errs.Sort()
 	if err := errs.Err(); err != nil {
-		return nil, err
+		if !isPlan {
+			return nil, err
+		}
+		return &p, err
 	}
 	return &p, nil
 }
