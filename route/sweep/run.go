@@ -219,6 +219,9 @@ func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
 		return nil, err
 	}
 	rows, err := r.runAll(ctx, mine)
+	if b := r.base; b != nil && b.out != nil {
+		os.RemoveAll(b.out.stage) // not published when the sweep stopped first (published, it is gone)
+	}
 	r.emptyTrash()
 	if n := r.foreign(f.Scenarios()); n != "" {
 		r.notes = append(r.notes, n)
@@ -456,6 +459,10 @@ type outcome struct {
 	row     Row
 	files   []fileset.OutputFile
 	skipped bool // kept as it was (Options.Resume)
+	// stage is the scenario's staging folder (runner.stage), made before its files were
+	// rendered so that their scratch files went there; publish puts it in place. "" when
+	// none was made (kept, or failed before planning).
+	stage string
 }
 
 // runAll plans the scenarios on a pool of workers, writes their folders on a pool of writers,
@@ -496,7 +503,7 @@ func (r *runner) runAll(ctx context.Context, list []Scenario) ([]Row, error) {
 				wg.Add(1)
 				go func() {
 					defer wg.Done()
-					err := r.publish(out.row.ID, out.files)
+					err := r.publish(out.row.ID, out.stage, out.files)
 					<-writers
 					results <- result{pos, out.row, err}
 				}()
@@ -613,17 +620,29 @@ func (r *runner) scenario(ctx context.Context, sc Scenario, resume bool) (outcom
 		}
 		return fail(err)
 	}
-	files, err := output.Files(ctx, res, r.opt.Write)
+	// The renderers' scratch files (plan.gpkg is built in one) go into the scenario's staging
+	// folder, as `spanwright plan`'s go into its set's: never into the system's temporary
+	// folder, and what a killed sweep leaves there the next run clears.
+	if out.stage, err = r.stage(sc.ID); err != nil {
+		return out, err
+	}
+	stop := func(err error) (outcome, error) {
+		os.RemoveAll(out.stage)
+		out.stage = ""
+		return out, err
+	}
+	rctx := fileset.WithScratchDir(ctx, out.stage)
+	files, err := output.Files(rctx, res, r.opt.Write)
 	if ctx.Err() != nil {
-		return out, ctx.Err()
+		return stop(ctx.Err())
 	}
 	if err != nil {
 		return fail(err)
 	}
 	if r.opt.Extra != nil {
-		more, err := r.opt.Extra(ctx, res)
+		more, err := r.opt.Extra(rctx, res)
 		if ctx.Err() != nil {
-			return out, ctx.Err()
+			return stop(ctx.Err())
 		}
 		if err != nil {
 			return fail(fmt.Errorf("extra outputs: %w", err))
@@ -800,12 +819,29 @@ func htmlIn(dir string) string {
 	return ""
 }
 
-// publish writes a scenario folder whole: the files go into a temporary folder with
-// fileset.WriteFresh, which is then renamed to the scenario id, replacing an older folder.
-// Failures are *fileset.OutputError naming the scenario folder.
-func (r *runner) publish(id string, files []fileset.OutputFile) error {
+// stage makes the staging folder of scenario id in the output folder (tmpPrefix, the id, a
+// dot, digits: clean removes it after a killed run). Failures are *fileset.OutputError
+// naming the scenario folder.
+func (r *runner) stage(id string) (string, error) {
+	tmp, err := os.MkdirTemp(r.out, tmpPrefix+id+".")
+	if err == nil {
+		if err = os.Chmod(tmp, 0o755); err != nil {
+			os.RemoveAll(tmp)
+		}
+	}
+	if err != nil {
+		return "", fmt.Errorf("scenario %s: %w", id, &fileset.OutputError{Path: filepath.Join(r.out, id), Err: err})
+	}
+	return tmp, nil
+}
+
+// publish writes a scenario folder whole: the files go into its staging folder (stage, or a
+// new one when "") with fileset.WriteFresh, which is then renamed to the scenario id,
+// replacing an older folder. Failures are *fileset.OutputError naming the scenario folder;
+// the staging folder is removed.
+func (r *runner) publish(id, stage string, files []fileset.OutputFile) error {
 	final := filepath.Join(r.out, id)
-	var tmp string
+	tmp := stage
 	fail := func(err error) error {
 		var oe *fileset.OutputError
 		if errors.As(err, &oe) {
@@ -816,19 +852,17 @@ func (r *runner) publish(id string, files []fileset.OutputFile) error {
 		}
 		return fmt.Errorf("scenario %s: %w", id, &fileset.OutputError{Path: final, Err: err})
 	}
-	tmp, err := os.MkdirTemp(r.out, tmpPrefix+id+".")
-	if err != nil {
-		return fail(err)
-	}
-	if err := os.Chmod(tmp, 0o755); err != nil {
-		os.RemoveAll(tmp)
-		return fail(err)
+	if tmp == "" {
+		var err error
+		if tmp, err = r.stage(id); err != nil {
+			return err
+		}
 	}
 	if err := fileset.WriteFresh(tmp, files); err != nil {
 		os.RemoveAll(tmp)
 		return fail(err)
 	}
-	err = os.Rename(tmp, final)
+	err := os.Rename(tmp, final)
 	if err != nil {
 		// An older folder is in the way: move it aside, put the new one in place, and drop
 		// the old one when the scenarios are done (see runner.trash).
