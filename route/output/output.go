@@ -593,19 +593,7 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 		fmt.Fprintf(w, "note: %s\n", t(n))
 	}
 	if s.Infeasible > 0 {
-		fmt.Fprintf(w, "%s infeasible:\n", Counted(s.Infeasible, "leg", "legs"))
-		shown := 0
-		for _, l := range r.Legs {
-			if l.Feasible {
-				continue
-			}
-			if shown == route.ShownInfeasible {
-				fmt.Fprintf(w, "  and %d more; links.csv lists every leg with its reason\n", s.Infeasible-shown)
-				break
-			}
-			fmt.Fprintf(w, "  %s/%s: %s\n", t(l.Link.ID), t(l.Name), t(l.Reason))
-			shown++
-		}
+		fmt.Fprintf(w, "%s infeasible:\n%s", Counted(s.Infeasible, "leg", "legs"), route.InfeasibleList(r.InfeasibleLegs()))
 	}
 	if len(s.MediaMix) > 0 {
 		links := map[string]map[string]bool{}
