@@ -186,6 +186,8 @@ func TestParseErrors(t *testing.T) {
 		{"section typo", "base: ../demo/plan.yaml\ncases: [{name: c, desgin.slack_m: 3}]", `x.yaml:2:19: case "c": desgin.slack_m: unknown key; did you mean design.slack_m? want one of budget,`},
 		{"unknown top key", "base: ../demo/plan.yaml\nvary: {hub: [ADM]}\nextra: 1", "x.yaml:3:1: extra: unknown key; want one of base, cases, vary"},
 		{"not a mapping", "[1, 2]", "x.yaml:1:1: want a mapping, got a list"},
+		{"a plan file", "name: p\ncampus: [c.geojson]\nhub: ADM\n", "x.yaml:2:1: campus: this is a plan file (it has campus: and no base:, vary: or cases:), not a sweep file; run `spanwright plan "},
+		{"a plan of a database", "campus_database: {table: t}\n", "campus_database: this is a plan file"},
 		{"not YAML", "base: [", "not YAML"},
 		{"empty axis", "base: ../demo/plan.yaml\nvary: {hub: []}", "x.yaml:2:13: vary: hub: want a non-empty list of values, got an empty list"},
 		{"same scenario twice", "base: ../demo/plan.yaml\nvary: {hub: [ADM, ADM]}", `x.yaml:2: vary: scenario id "adm-4de93e1a" used twice: scenario 0 (hub=ADM) has the same overrides`},
