@@ -117,7 +117,8 @@ type Report struct {
 	DemoPrices int      // scenarios priced by the invented demo price book
 	Files      []string // files written besides the scenario folders, sorted
 	// Notes say what the run did that the user may not expect: a kept base scenario planned
-	// again because its folder was not as the sweep wrote it.
+	// again because its folder was not as the sweep wrote it, folders in the output folder
+	// that no scenario of this sweep file has.
 	Notes []string
 }
 
