@@ -705,11 +705,19 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 }
 
 // PricedNote says, when some legs are infeasible, that the plan's costs price only the
-// feasible ones (an infeasible leg has no route, no medium and no bill lines); "" when every
-// leg is feasible. The terminal and the report print it beside the total.
+// feasible ones (an infeasible leg has no route, no medium and no bill lines), or, when every
+// leg is, that no leg is priced; "" when every leg is feasible. The terminal and the report
+// print it beside the total.
 func (s Summary) PricedNote() string {
 	if s.Infeasible == 0 {
 		return ""
+	}
+	if s.Infeasible == s.Legs {
+		which := "the one leg is"
+		if s.Legs != 1 {
+			which = fmt.Sprintf("all %d legs are", s.Legs)
+		}
+		return "no leg is priced: " + which + " infeasible (no route or medium was found)"
 	}
 	return fmt.Sprintf("the total prices the %s of %d only; %s not priced (no route or medium was found)",
 		Counted(s.Legs-s.Infeasible, "feasible leg", "feasible legs"), s.Legs, Counted(s.Infeasible, "infeasible leg is", "infeasible legs are"))
