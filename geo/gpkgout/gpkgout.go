@@ -169,6 +169,13 @@ func WriteToIn(ctx context.Context, w io.Writer, layers []Layer, dir string) err
 		}
 		return fmt.Errorf("gpkgout: build %s: %w", name, err)
 	}
+	return copyBuilt(w, name)
+}
+
+// copyBuilt copies the database SQLite built in the file name to w; a file still empty is an
+// error naming it (SQLite wrote elsewhere: a path its URI did not name whole), as is one that
+// cannot be read. An error of w is returned as it is.
+func copyBuilt(w io.Writer, name string) error {
 	f, err := os.Open(name)
 	if err != nil {
 		return fmt.Errorf("gpkgout: %w", err)

@@ -294,3 +294,29 @@ func (s *scratchSpy) Write(p []byte) (int, error) {
 	}
 	return s.buf.Write(p)
 }
+
+// TestCopyBuiltRefusesEmpty: a scratch file SQLite left empty (it built the database in
+// another file, as a URI cut short at a '#' made it do) is an error naming the file, and
+// nothing is written; a built one is copied whole.
+func TestCopyBuiltRefusesEmpty(t *testing.T) {
+	t.Parallel()
+	name := filepath.Join(t.TempDir(), ".spanwright-gpkg-1.gpkg")
+	if err := os.WriteFile(name, nil, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	var buf bytes.Buffer
+	err := copyBuilt(&buf, name)
+	if err == nil || !strings.Contains(err.Error(), name+": the file is empty") || buf.Len() != 0 {
+		t.Errorf("empty scratch file: got %v and %d bytes; want an error naming %s, nothing written", err, buf.Len(), name)
+	}
+	want, err := Bytes(context.Background(), sample())
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(name, want, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if err := copyBuilt(&buf, name); err != nil || !bytes.Equal(buf.Bytes(), want) {
+		t.Errorf("built file: %v, %d bytes of %d", err, buf.Len(), len(want))
+	}
+}
