@@ -156,6 +156,26 @@ func TestScratchInStaging(t *testing.T) {
 		}
 	}
 
+	// Shard 2 of 2 plans the base scenario (shard 1's) for its warm start but stages and
+	// renders only its own scenario: another shard's clean, at its start, removes the staging
+	// folders of its own scenarios, the base's among them.
+	seen = nil
+	sharded := t.TempDir()
+	rep = run(t, f, Options{Out: sharded, Jobs: 1, Shard: Shard{2, 2}, Extra: extra})
+	own := f.Scenarios()[1].ID
+	if rep.Failed != 0 || len(seen) != 1 || !strings.HasPrefix(seen[0], filepath.Join(sharded, tmpPrefix+own+".")) {
+		t.Errorf("shard 2 of 2: failed %d, scratch folders %q; want one, %s%s.* in %s", rep.Failed, seen, tmpPrefix, own, sharded)
+	}
+	if ents, _ := os.ReadDir(sharded); len(ents) < 1 {
+		t.Errorf("shard 2 of 2 wrote nothing")
+	} else {
+		for _, e := range ents {
+			if strings.HasPrefix(e.Name(), tmpPrefix) || e.Name() == f.Scenarios()[0].ID {
+				t.Errorf("shard 2 of 2 left %s in %s", e.Name(), sharded)
+			}
+		}
+	}
+
 	// Stopped while a scenario's files render (its staging folder made, plan.gpkg built in
 	// it), the sweep leaves no staging folder behind, whichever scenario it was.
 	for stopAt := 1; stopAt <= 2; stopAt++ {

@@ -621,9 +621,25 @@ func (r *runner) scenario(ctx context.Context, sc Scenario, resume bool) (outcom
 		}
 		return fail(err)
 	}
+	if !r.opt.Shard.Has(sc.Index) {
+		// Another shard's scenario (the base, planned by every shard for its warm start):
+		// nothing of it is written here, and only its routes are read (planBase).
+		files, err := routesOnly(ctx, res, r.opt.Write)
+		if ctx.Err() != nil {
+			return out, ctx.Err()
+		}
+		if err != nil {
+			return fail(err)
+		}
+		out.row.fill(output.Summarize(res))
+		out.files = files
+		return out, nil
+	}
 	// The renderers' scratch files (plan.gpkg is built in one) go into the scenario's staging
 	// folder, as `spanwright plan`'s go into its set's: never into the system's temporary
-	// folder, and what a killed sweep leaves there the next run clears.
+	// folder, and what a killed sweep leaves there the next run clears. Only this shard's
+	// scenarios have one: clean, at another shard's start, removes the staging folders of
+	// that shard's scenarios.
 	if out.stage, err = r.stage(sc.ID); err != nil {
 		return out, err
 	}
@@ -666,6 +682,20 @@ func (r *runner) scenario(ctx context.Context, sc Scenario, resume bool) (outcom
 	}
 	out.files = files
 	return out, nil
+}
+
+// routesOnly renders a planned scenario's routes file alone, as output.Files renders it.
+func routesOnly(ctx context.Context, res *route.Result, opt output.WriteOptions) ([]fileset.OutputFile, error) {
+	for _, f := range output.Outputs(res, opt) {
+		if f.Name == output.RoutesFile {
+			var buf bytes.Buffer
+			if err := f.Render(ctx, &buf); err != nil {
+				return nil, err
+			}
+			return []fileset.OutputFile{{Name: f.Name, Data: buf.Bytes()}}, nil
+		}
+	}
+	panic("sweep: no " + output.RoutesFile + " among the outputs")
 }
 
 // planYAML renders the scenario's plan: the base plan with file names made relative to the

@@ -53,8 +53,6 @@ func (r *runner) planBase(ctx context.Context) error {
 	b := &baseStart{index: sc.Index, id: sc.ID}
 	if r.opt.Shard.Has(sc.Index) {
 		b.out = &out
-	} else {
-		os.RemoveAll(out.stage) // another shard's to write
 	}
 	r.base = b
 	if out.row.Status == StatusFailed {
@@ -85,8 +83,6 @@ func (r *runner) planBase(ctx context.Context) error {
 			}
 			if b.out != nil {
 				b.out = &out
-			} else {
-				os.RemoveAll(out.stage)
 			}
 			if out.row.Status == StatusFailed {
 				return nil
