@@ -5,13 +5,15 @@ import (
 	"errors"
 	"fmt"
 	"slices"
+	"strings"
+
 	"spanwright/geo/input"
 	"spanwright/media"
+	"spanwright/route/escape"
 	"spanwright/route/estimate"
 	"spanwright/route/plan"
 	"spanwright/route/routing"
 	"spanwright/route/site"
-	"strings"
 )
 
 // Result is a planned scenario: its links, their legs, and what was noticed on the way.
@@ -56,41 +58,63 @@ type Result struct {
 var ErrInfeasible = errors.New("some links are infeasible")
 
 // InfeasibleError lists the legs a finished plan could not serve.
-type InfeasibleError struct{ Legs []string }
+type InfeasibleError struct {
+	Legs []string // "link/leg: reason", as Result.InfeasibleLegs gives them
+	// Listed says the legs were printed already (the terminal summary, output.PrintSummary):
+	// the error then counts them and points there instead of printing them again.
+	Listed bool
+}
 
-// Error lists the legs one per line, at most ShownInfeasible of them: a large campus can have
-// dozens, each with a long reason; links.csv has every leg with its reason (column reason).
+// Error counts the legs and lists them (InfeasibleList), or with Listed says they are
+// listed above.
 func (e *InfeasibleError) Error() string {
-	var b strings.Builder
-	if len(e.Legs) == 1 {
-		b.WriteString("1 infeasible link leg:")
-	} else {
-		fmt.Fprintf(&b, "%d infeasible link legs:", len(e.Legs))
+	head := "1 infeasible link leg"
+	if len(e.Legs) != 1 {
+		head = fmt.Sprintf("%d infeasible link legs", len(e.Legs))
 	}
-	for i, l := range e.Legs {
+	if e.Listed {
+		return head + ", listed above"
+	}
+	return head + ":\n" + strings.TrimSuffix(InfeasibleList(e.Legs), "\n")
+}
+
+// InfeasibleList is the one text of a list of infeasible legs on the terminal: one indented
+// line per leg (escape.Terminal: an id or reason cannot add a line), at most ShownInfeasible
+// of them and a line counting the rest, each line ending in a line feed. A large campus can
+// have dozens, each with a long reason; links.csv has every leg with its reason (column
+// reason).
+func InfeasibleList(legs []string) string {
+	var b strings.Builder
+	for i, l := range legs {
 		if i == ShownInfeasible {
-			fmt.Fprintf(&b, "\n  and %d more; links.csv lists every leg with its reason", len(e.Legs)-i)
+			fmt.Fprintf(&b, "  and %d more; links.csv lists every leg with its reason\n", len(legs)-i)
 			break
 		}
-		b.WriteString("\n  ")
-		b.WriteString(l)
+		b.WriteString("  " + escape.Terminal(l) + "\n")
 	}
 	return b.String()
 }
 
-// ShownInfeasible is the most infeasible legs an InfeasibleError names.
+// ShownInfeasible is the most infeasible legs InfeasibleList names.
 const ShownInfeasible = 10
 
 func (e *InfeasibleError) Unwrap() error { return ErrInfeasible }
 
-// Infeasible returns an *InfeasibleError naming every infeasible leg, or nil.
-func (r *Result) Infeasible() error {
+// InfeasibleLegs names every infeasible leg with its reason, "link/leg: reason", in the
+// order of the legs.
+func (r *Result) InfeasibleLegs() []string {
 	var names []string
 	for _, l := range r.Legs {
 		if !l.Feasible {
 			names = append(names, l.Link.ID+"/"+l.Name+": "+l.Reason)
 		}
 	}
+	return names
+}
+
+// Infeasible returns an *InfeasibleError naming every infeasible leg, or nil.
+func (r *Result) Infeasible() error {
+	names := r.InfeasibleLegs()
 	if len(names) == 0 {
 		return nil
 	}

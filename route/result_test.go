@@ -34,4 +34,17 @@ func TestInfeasibleErrorLines(t *testing.T) {
 	if !errors.Is(many, ErrInfeasible) {
 		t.Error("does not wrap ErrInfeasible")
 	}
+	// The list is InfeasibleList's text, the one the terminal summary prints; once listed
+	// there, the error only counts the legs.
+	if got, want := many.Error(), lines[0]+"\n"+strings.TrimSuffix(InfeasibleList(legs), "\n"); got != want {
+		t.Errorf("the error's list is not InfeasibleList's:\n%s", got)
+	}
+	listed := &InfeasibleError{Legs: legs, Listed: true}
+	if got, want := listed.Error(), fmt.Sprintf("%d infeasible link legs, listed above", len(legs)); got != want || !errors.Is(listed, ErrInfeasible) {
+		t.Errorf("listed: got %q, want %q and ErrInfeasible", got, want)
+	}
+	// An id or reason holding a line feed cannot add a line of its own (escape.Terminal).
+	if got, want := InfeasibleList([]string{"L\nhub ok/primary: x"}), "  L<U+000A>hub ok/primary: x\n"; got != want {
+		t.Errorf("got %q, want %q", got, want)
+	}
 }

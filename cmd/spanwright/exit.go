@@ -1,10 +1,14 @@
 package main
 
 import (
+	"context"
 	"errors"
 	"fmt"
+	"os"
+	"os/signal"
 	"slices"
 	"strings"
+	"sync/atomic"
 	"syscall"
 )
 
@@ -123,4 +127,36 @@ func stopLine(sig syscall.Signal, err error) string {
 		what = st.what
 	}
 	return "stopped by " + name + ": " + what
+}
+
+// stopOnSignal returns a context that SIGINT (Ctrl-C) or SIGTERM cancels, a function that
+// names the signal that did (0 when none), and one that stops listening and cancels the
+// context, for main to call once the run returns.
+func stopOnSignal() (context.Context, func() syscall.Signal, func()) {
+	ctx, cancel := context.WithCancel(context.Background())
+	sigs := make(chan os.Signal, 1)
+	signal.Notify(sigs, os.Interrupt, syscall.SIGTERM)
+	var got atomic.Value // the signal that stopped the run
+	go func() {
+		s := <-sigs
+		got.Store(s)
+		cancel()
+	}()
+	which := func() syscall.Signal { s, _ := got.Load().(syscall.Signal); return s }
+	return ctx, which, func() { signal.Stop(sigs); cancel() }
+}
+
+// finalStatus is the exit status of a run that returned err, stopped by the signal sig (0
+// when none), and the line main prints after "spanwright: " ("" for none): for a run the
+// signal stopped, 128 + the signal (the shell's convention: 130 for Ctrl-C, 143 for SIGTERM)
+// and stopLine, one plain line, not the context's "canceled"; otherwise exitCode and the
+// error's text.
+func finalStatus(err error, sig syscall.Signal) (int, string) {
+	if err == nil {
+		return exitCode(nil), ""
+	}
+	if sig != 0 && errors.Is(err, context.Canceled) {
+		return 128 + int(sig), stopLine(sig, err)
+	}
+	return exitCode(err), err.Error()
 }

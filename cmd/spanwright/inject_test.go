@@ -11,6 +11,7 @@ import (
 	"strings"
 	"testing"
 
+	"spanwright/geo/gpkgout"
 	"spanwright/route/workbook"
 
 	_ "modernc.org/sqlite" // reads plan.gpkg back
@@ -227,7 +228,11 @@ func TestPayloadPlan(t *testing.T) {
 
 	// plan.gpkg is data for programs too: its text columns hold the ids exactly as given,
 	// as SQLite TEXT (a GeoPackage column is never a formula).
-	db, err := sql.Open("sqlite", "file:"+filepath.Join(out, "plan.gpkg")+"?mode=ro")
+	uri, err := gpkgout.URI(filepath.Join(out, "plan.gpkg"), "mode=ro")
+	if err != nil {
+		t.Fatal(err)
+	}
+	db, err := sql.Open("sqlite", uri)
 	if err != nil {
 		t.Fatal(err)
 	}

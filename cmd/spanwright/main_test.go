@@ -211,6 +211,13 @@ func TestCutOffBuilding(t *testing.T) {
 	if !strings.Contains(stdout+msg, why) {
 		t.Errorf("output lacks %q:\n%s%s", why, stdout, msg)
 	}
+	// The list is printed once, in the summary; the error counts the legs and points at it.
+	if n := strings.Count(stdout+msg, why); n != 1 {
+		t.Errorf("the leg's reason printed %d times, want once:\n%s%s", n, stdout, msg)
+	}
+	if want := "1 infeasible link leg, listed above"; msg != want {
+		t.Errorf("error %q, want %q", msg, want)
+	}
 	links, err := os.ReadFile(filepath.Join(out, "links.csv"))
 	if err != nil {
 		t.Fatal(err)

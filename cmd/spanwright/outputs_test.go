@@ -1,6 +1,7 @@
 package main
 
 import (
+	"bytes"
 	"errors"
 	"fmt"
 	"io/fs"
@@ -167,5 +168,39 @@ func TestSweepRefusesBeforePlanning(t *testing.T) {
 	}
 	if got, _ := os.ReadFile(sweepFile); string(got) != body {
 		t.Errorf("the sweep file changed")
+	}
+}
+
+// TestOutFolderNames plans into --out folders whose names hold what an SQLite URI reads
+// otherwise ('#', '?', '%41', a space: SQLite, "URI Filenames" §3.1): plan.gpkg is the same
+// whole GeoPackage as in a plain folder (it was built elsewhere and came out empty, status 0,
+// before gpkgout.URI), and nothing is left beside --out or in TMPDIR. Not parallel: it points
+// TMPDIR at a folder of its own.
+func TestOutFolderNames(t *testing.T) {
+	t.Setenv("TMPDIR", t.TempDir())
+	plain := filepath.Join(t.TempDir(), "plain")
+	if _, msg, code := run(t, "plan", "testdata/plans/ok.yaml", "--out", plain); code != exitOK {
+		t.Fatalf("exit %d: %s", code, msg)
+	}
+	want, err := os.ReadFile(filepath.Join(plain, "plan.gpkg"))
+	if err != nil || len(want) == 0 {
+		t.Fatalf("plan.gpkg in a plain folder: %d bytes, %v", len(want), err)
+	}
+	for _, name := range []string{"x#1", "what?now", "a%41b", "two words", "#?%41 all"} {
+		top := t.TempDir()
+		out := filepath.Join(top, name)
+		if _, msg, code := run(t, "plan", "testdata/plans/ok.yaml", "--out", out); code != exitOK {
+			t.Errorf("--out %q: exit %d: %s", name, code, msg)
+			continue
+		}
+		if got, _ := os.ReadFile(filepath.Join(out, "plan.gpkg")); !bytes.Equal(got, want) {
+			t.Errorf("--out %q: plan.gpkg is %d bytes, want the plain folder's %d", name, len(got), len(want))
+		}
+		if ents, _ := os.ReadDir(top); len(ents) != 1 {
+			t.Errorf("--out %q: beside it %v; want nothing else", name, ents)
+		}
+	}
+	if ents, _ := os.ReadDir(os.Getenv("TMPDIR")); len(ents) != 0 {
+		t.Errorf("left in TMPDIR: %v", ents)
 	}
 }

@@ -112,7 +112,10 @@ func runPlan(ctx context.Context, fsys fs.FS, p *plan.Plan, out string, run plan
 		return err
 	}
 	fmt.Fprintf(w, "outputs written to %s\n", escape.Terminal(out))
-	return output.InfeasibleInUnits(opt, res.Infeasible())
+	if legs := res.InfeasibleLegs(); len(legs) > 0 {
+		return &route.InfeasibleError{Legs: legs, Listed: true} // the summary listed them
+	}
+	return nil
 }
 
 // stage is told when runPlan has read the campus ("loaded") and planned ("planned"); it does

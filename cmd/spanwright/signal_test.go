@@ -17,6 +17,7 @@ import (
 	"time"
 
 	"spanwright/geo/ctxtest"
+	"spanwright/route"
 	"spanwright/route/fileset"
 )
 
@@ -335,6 +336,35 @@ func TestStoppedCommandsWriteNothing(t *testing.T) {
 			if ents, _ := os.ReadDir(out); len(ents) > 0 {
 				t.Errorf("%s cancelled at look %d of %d: %s holds %s, want nothing written", tc.name, at, total, out, ents[0].Name())
 			}
+		}
+	}
+}
+
+// TestFinalStatus: the status and line main ends with. A run stopped by a signal exits
+// 128 + the signal, as shells report a command a signal ended (POSIX Shell Command Language,
+// "Exit Status for Commands": greater than 128; bash's and dash's 128 + n, from memory), with
+// one plain line; a run that ended by itself
+// exits as exitCode says, with its error's text; an error that only wraps a cancelled
+// context without a signal is not called stopped by one.
+func TestFinalStatus(t *testing.T) {
+	canceled := stopped{what: "nothing written", err: context.Canceled}
+	for _, tc := range []struct {
+		name string
+		err  error
+		sig  syscall.Signal
+		code int
+		msg  string
+	}{
+		{"done", nil, 0, exitOK, ""},
+		{"done, signal after", nil, syscall.SIGINT, exitOK, ""},
+		{"Ctrl-C", canceled, syscall.SIGINT, exitInterrupt, "stopped by Ctrl-C (SIGINT): nothing written"},
+		{"SIGTERM", canceled, syscall.SIGTERM, exitTerminate, "stopped by SIGTERM: nothing written"},
+		{"infeasible, signal after", &route.InfeasibleError{Legs: []string{"L/primary: x"}, Listed: true}, syscall.SIGINT, exitInfeasible, "1 infeasible link leg, listed above"},
+		{"cancelled without a signal", canceled, 0, exitCode(canceled), "stopped, nothing written"},
+	} {
+		code, msg := finalStatus(tc.err, tc.sig)
+		if code != tc.code || msg != tc.msg {
+			t.Errorf("%s: got %d %q, want %d %q", tc.name, code, msg, tc.code, tc.msg)
 		}
 	}
 }

@@ -123,6 +123,10 @@ func TestSweepExitStatus(t *testing.T) {
 		{"bad shard", []string{write("cases: [{name: base}]"), "--shard", "3/2"}, exitInvalid, "--shard"},
 		{"bad jobs", []string{write("cases: [{name: base}]"), "--jobs", "0"}, exitInvalid, "--jobs"},
 		{"no sweep file", nil, exitInvalid, "name exactly one sweep file"},
+		// The mirror of a sweep file given to plan: one line naming the file a plan, and the
+		// command to run, instead of "base: missing" and an unknown key per plan key.
+		{"a plan file", []string{"../../testdata/demo/plan.yaml"}, exitInvalid,
+			"plan.yaml:4:1: campus: this is a plan file (it has campus: and no base:, vary: or cases:), not a sweep file; run `spanwright plan ../../testdata/demo/plan.yaml --out DIR`"},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
@@ -130,6 +134,9 @@ func TestSweepExitStatus(t *testing.T) {
 			_, msg, code := run(t, args...)
 			if code != tc.code || !strings.Contains(msg, tc.want) {
 				t.Errorf("%s: got status %d, %q; want %d, %q", tc.name, code, msg, tc.code, tc.want)
+			}
+			if tc.name == "a plan file" && strings.Count(strings.TrimSpace(msg), "\n") != 0 {
+				t.Errorf("%s: %d lines, want one:\n%s", tc.name, strings.Count(msg, "\n")+1, msg)
 			}
 		})
 	}

@@ -18,6 +18,7 @@ import (
 	_ "modernc.org/sqlite" // the pure-Go SQLite driver, "sqlite"
 
 	"spanwright/geo"
+	"spanwright/geo/gpkgout"
 	"spanwright/geo/input"
 )
 
@@ -55,7 +56,12 @@ func Read(ctx context.Context, r *geo.Reader, path string, maxBytes int64) {
 		fileErr(fmt.Errorf("read: %w", input.Cause(err)))
 		return
 	}
-	db, err := sql.Open("sqlite", dsn(path, settled(path)))
+	uri, err := dsn(path, settled(path))
+	if err != nil {
+		fileErr(fmt.Errorf("open: %w", err))
+		return
+	}
+	db, err := sql.Open("sqlite", uri)
 	if err != nil {
 		fileErr(fmt.Errorf("open: %w", err))
 		return
@@ -82,17 +88,16 @@ func Read(ctx context.Context, r *geo.Reader, path string, maxBytes int64) {
 
 // dsn is the SQLite URI of path opened read-only (SQLite, "URI Filenames": mode=ro), with
 // the statements that could write refused as well (PRAGMA query_only); immutable for a file
-// that nothing can be writing (settled), so that SQLite creates nothing beside it.
-func dsn(path string, immutable bool) string {
-	u := url.URL{Scheme: "file", Opaque: escapePath(path)}
+// that nothing can be writing (settled), so that SQLite creates nothing beside it. The path
+// is escaped as gpkgout.URI escapes every SQLite file's.
+func dsn(path string, immutable bool) (string, error) {
 	q := url.Values{}
 	q.Set("mode", "ro")
 	if immutable {
 		q.Set("immutable", "1")
 	}
 	q.Add("_pragma", "query_only(1)")
-	u.RawQuery = q.Encode()
-	return u.String()
+	return gpkgout.URI(path, q.Encode())
 }
 
 // settled reports whether path is an SQLite database in WAL mode (file format write version
@@ -113,20 +118,6 @@ func settled(path string) bool {
 	}
 	_, err = os.Lstat(path + "-wal")
 	return errors.Is(err, fs.ErrNotExist)
-}
-
-// escapePath percent-encodes what SQLite's URI parser would read as other than the path.
-func escapePath(p string) string {
-	var b strings.Builder
-	for i := 0; i < len(p); i++ {
-		switch c := p[i]; c {
-		case '%', '?', '#':
-			fmt.Fprintf(&b, "%%%02X", c)
-		default:
-			b.WriteByte(c)
-		}
-	}
-	return b.String()
 }
 
 // table is a feature table and its geometry column (gpkg_geometry_columns) and spatial

@@ -6,6 +6,7 @@ import (
 	"encoding/binary"
 	"encoding/json"
 	"errors"
+	"fmt"
 	"math"
 	"os"
 	"os/exec"
@@ -20,6 +21,7 @@ import (
 
 	"spanwright/geo"
 	"spanwright/geo/crs"
+	"spanwright/geo/gpkgout"
 	"spanwright/geo/input"
 )
 
@@ -143,7 +145,11 @@ func TestDemoAsGeoPackage(t *testing.T) {
 				t.Errorf("reading left a journal beside %s", path)
 			}
 			// The connection Read opens refuses to write (SQLite URI mode=ro, PRAGMA query_only).
-			db, err := sql.Open("sqlite", dsn(path, false))
+			uri, err := dsn(path, false)
+			if err != nil {
+				t.Fatal(err)
+			}
+			db, err := sql.Open("sqlite", uri)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -257,6 +263,20 @@ func featureTable(t *testing.T, db *sql.DB, name, geomType string, srsID int, co
 	}
 }
 
+// openRW opens the SQLite file at path to write, by its URI (gpkgout.URI).
+func openRW(t *testing.T, path string) *sql.DB {
+	t.Helper()
+	uri, err := gpkgout.URI(path, "")
+	if err != nil {
+		t.Fatal(err)
+	}
+	db, err := sql.Open("sqlite", uri)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return db
+}
+
 func square(x, y, d float64) orb.Polygon {
 	return orb.Polygon{{{x, y}, {x + d, y}, {x + d, y + d}, {x, y + d}, {x, y}}}
 }
@@ -265,10 +285,7 @@ func square(x, y, d float64) orb.Polygon {
 // every row, in both layouts.
 func brokenGeoPackage(t *testing.T, path string) {
 	t.Helper()
-	db, err := sql.Open("sqlite", "file:"+path)
-	if err != nil {
-		t.Fatal(err)
-	}
+	db := openRW(t, path)
 	defer db.Close()
 	if _, err := db.Exec(gpkgDDL); err != nil {
 		t.Fatal(err)
@@ -366,10 +383,7 @@ func TestNotGeoPackage(t *testing.T) {
 	text := filepath.Join(dir, "text.gpkg")
 	os.WriteFile(text, []byte("just some text, not SQLite at all, long enough to fill a header page"), 0o644)
 	plain := filepath.Join(dir, "plain.gpkg")
-	db, err := sql.Open("sqlite", "file:"+plain)
-	if err != nil {
-		t.Fatal(err)
-	}
+	db := openRW(t, plain)
 	if _, err := db.Exec("CREATE TABLE t (x INTEGER)"); err != nil {
 		t.Fatal(err)
 	}
@@ -385,7 +399,7 @@ func TestNotGeoPackage(t *testing.T) {
 			t.Errorf("%s: got %v, want %q…", tc.path, err, tc.want)
 		}
 	}
-	_, err = read(t, text)
+	_, err := read(t, text)
 	if !errors.Is(err, ErrNotGeoPackage) {
 		t.Errorf("got %v, want ErrNotGeoPackage", err)
 	}
@@ -413,10 +427,7 @@ func TestWALLeftAlone(t *testing.T) {
 	dir := t.TempDir()
 	path := filepath.Join(dir, "campus.gpkg")
 	run(t, ogr2ogr, "-f", "GPKG", path, demo)
-	db, err := sql.Open("sqlite", "file:"+path)
-	if err != nil {
-		t.Fatal(err)
-	}
+	db := openRW(t, path)
 	var mode string
 	if err := db.QueryRow("PRAGMA journal_mode = WAL").Scan(&mode); err != nil || mode != "wal" {
 		t.Fatalf("journal_mode %q, %v", mode, err)
@@ -503,4 +514,79 @@ func TestWithGeoJSON(t *testing.T) {
 	if !errors.As(err, &ps) || ps.Len() < 1 || !strings.Contains(ps.List[0].Error(), "the same file as "+path+", given twice") {
 		t.Errorf("got %v, want the file refused as given twice", err)
 	}
+}
+
+// TestFolderNames reads the demo's GeoPackage from folders whose names hold what an SQLite
+// URI reads otherwise ('#' a fragment, '?' a query, '%41' an escaped "A", a space: SQLite,
+// "URI Filenames" §3.1), in rollback-journal mode and in WAL mode (opened immutable), and by
+// a path relative to the working folder: each reads as the demo campus, and nothing is
+// created beside the file or where a cut path would point.
+func TestFolderNames(t *testing.T) {
+	ogr2ogr := needTool(t, "ogr2ogr")
+	src := filepath.Join(t.TempDir(), "campus.gpkg")
+	run(t, ogr2ogr, "-f", "GPKG", src, demo)
+	srcBytes, err := os.ReadFile(src)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want, _ := geo.Load([]string{demo})
+	// The cases' names are plain, so that the test's own temporary folders hold none of these.
+	for _, tc := range []struct{ name, folder string }{
+		{"hash", "x#1"}, {"question mark", "what?now"}, {"percent", "a%41b"}, {"space", "two words"},
+		{"all", "#?%41 all"},
+	} {
+		for _, wal := range []bool{false, true} {
+			t.Run(fmt.Sprintf("%s wal %v", tc.name, wal), func(t *testing.T) {
+				top := t.TempDir()
+				dir := filepath.Join(top, tc.folder)
+				if err := os.Mkdir(dir, 0o755); err != nil {
+					t.Fatal(err)
+				}
+				path := filepath.Join(dir, "campus.gpkg")
+				if err := os.WriteFile(path, srcBytes, 0o644); err != nil {
+					t.Fatal(err)
+				}
+				if wal {
+					db := openRW(t, path)
+					var mode string
+					if err := db.QueryRow("PRAGMA journal_mode = WAL").Scan(&mode); err != nil || mode != "wal" {
+						t.Fatalf("journal_mode %q, %v", mode, err)
+					}
+					db.Close()
+					if !settled(path) {
+						t.Fatal("the WAL GeoPackage is not settled")
+					}
+				}
+				got, err := read(t, path)
+				if err != nil {
+					t.Fatal(err)
+				}
+				if !reflect.DeepEqual(placeless(got), placeless(want)) {
+					t.Error("the campus read differs from the GeoJSON's")
+				}
+				for d, n := range map[string]int{top: 1, dir: 1} {
+					if ents, _ := os.ReadDir(d); len(ents) != n {
+						t.Errorf("%s holds %v after the reading; want %d", d, ents, n)
+					}
+				}
+			})
+		}
+	}
+	t.Run("relative", func(t *testing.T) {
+		dir := filepath.Join(t.TempDir(), "x#1")
+		if err := os.Mkdir(dir, 0o755); err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(filepath.Join(dir, "campus.gpkg"), srcBytes, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		t.Chdir(filepath.Dir(dir))
+		got, err := read(t, filepath.Join("x#1", "campus.gpkg"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !reflect.DeepEqual(placeless(got), placeless(want)) {
+			t.Error("the campus read differs from the GeoJSON's")
+		}
+	})
 }

@@ -8,7 +8,9 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"net/url"
 	"os"
+	"path/filepath"
 	"strings"
 
 	"github.com/paulmach/orb"
@@ -98,17 +100,18 @@ func Bytes(ctx context.Context, layers []Layer) ([]byte, error) {
 	return buf.Bytes(), nil
 }
 
-// build writes layers into the SQLite database dsn names and closes it.
+// build writes layers into the SQLite database dsn names and closes it; its errors are
+// SQLite's (and the schema step or layer they happened in), for the caller to name the file.
 func build(ctx context.Context, dsn string, layers []Layer) error {
 	db, err := sql.Open("sqlite", dsn)
 	if err != nil {
-		return fmt.Errorf("gpkgout: %w", err)
+		return err
 	}
 	defer db.Close()
 	db.SetMaxOpenConns(1)
 	conn, err := db.Conn(ctx)
 	if err != nil {
-		return fmt.Errorf("gpkgout: %w", err)
+		return err
 	}
 	defer conn.Close()
 	if err := write(ctx, conn, layers); err != nil {
@@ -118,10 +121,10 @@ func build(ctx context.Context, dsn string, layers []Layer) error {
 		return err
 	}
 	if err := conn.Close(); err != nil {
-		return fmt.Errorf("gpkgout: %w", err)
+		return err
 	}
 	if err := db.Close(); err != nil {
-		return fmt.Errorf("gpkgout: %w", err)
+		return err
 	}
 	return nil
 }
@@ -138,7 +141,8 @@ func WriteTo(ctx context.Context, w io.Writer, layers []Layer) error {
 // WriteToIn is WriteTo building the database in a scratch file in folder dir ("" for the
 // system's temporary folder). A caller that writes into a staging folder passes it, so that a
 // killed process leaves its scratch file where the next run clears it, not in the temporary
-// folder.
+// folder. Any folder name will do (URI opens it whatever it holds); an error of SQLite names
+// the scratch file, and a build that leaves the file empty is an error naming it.
 func WriteToIn(ctx context.Context, w io.Writer, layers []Layer, dir string) error {
 	if err := check(layers); err != nil {
 		return err
@@ -155,16 +159,49 @@ func WriteToIn(ctx context.Context, w io.Writer, layers []Layer, dir string) err
 	if err := tmp.Close(); err != nil {
 		return fmt.Errorf("gpkgout: %w", err)
 	}
-	if err := build(ctx, "file:"+name+"?_pragma=journal_mode(OFF)&_pragma=synchronous(OFF)", layers); err != nil {
-		return err
+	uri, err := URI(name, "_pragma=journal_mode(OFF)&_pragma=synchronous(OFF)")
+	if err != nil {
+		return fmt.Errorf("gpkgout: %s: %w", name, err)
 	}
+	if err := build(ctx, uri, layers); err != nil {
+		if ctx.Err() != nil {
+			return ctx.Err()
+		}
+		return fmt.Errorf("gpkgout: build %s: %w", name, err)
+	}
+	return copyBuilt(w, name)
+}
+
+// copyBuilt copies the database SQLite built in the file name to w; a file still empty is an
+// error naming it (SQLite wrote elsewhere: a path its URI did not name whole), as is one that
+// cannot be read. An error of w is returned as it is.
+func copyBuilt(w io.Writer, name string) error {
 	f, err := os.Open(name)
 	if err != nil {
 		return fmt.Errorf("gpkgout: %w", err)
 	}
 	defer f.Close()
+	if st, err := f.Stat(); err != nil {
+		return fmt.Errorf("gpkgout: %w", err)
+	} else if st.Size() == 0 {
+		return fmt.Errorf("gpkgout: build %s: the file is empty after the build (SQLite wrote elsewhere)", name)
+	}
 	_, err = io.Copy(w, f)
 	return err
+}
+
+// URI returns the SQLite URI filename (SQLite, "URI Filenames") that opens the file at path
+// (made absolute) with the given query ("" for none; its parameters as SQLite and the
+// driver read them, already escaped). The path is percent-encoded as a URL path, so that a
+// '#', '?' or '%' in it is part of the name, not a fragment, a query or an escape; a plain
+// "file:"+path would open another file. Every SQLite file of the module is opened through it.
+func URI(path, query string) (string, error) {
+	abs, err := filepath.Abs(path)
+	if err != nil {
+		return "", err
+	}
+	u := url.URL{Scheme: "file", Path: filepath.ToSlash(abs), RawQuery: query}
+	return u.String(), nil
 }
 
 // schema is the GeoPackage's required tables, as OGC GeoPackage 1.3 Annex C gives them
@@ -220,17 +257,17 @@ const wkt4326 = `GEOGCS["WGS 84",DATUM["WGS_1984",SPHEROID["WGS 84",6378137,298.
 func write(ctx context.Context, conn *sql.Conn, layers []Layer) error {
 	for _, s := range schema {
 		if _, err := conn.ExecContext(ctx, s); err != nil {
-			return fmt.Errorf("gpkgout: schema: %w", err)
+			return fmt.Errorf("schema: %w", err)
 		}
 	}
 	for i := range layers {
 		if err := writeLayer(ctx, conn, &layers[i]); err != nil {
-			return fmt.Errorf("gpkgout: layer %s: %w", layers[i].Name, err)
+			return fmt.Errorf("layer %s: %w", layers[i].Name, err)
 		}
 	}
 	// VACUUM leaves no free pages behind, so the bytes depend on the content only.
 	if _, err := conn.ExecContext(ctx, "VACUUM"); err != nil {
-		return fmt.Errorf("gpkgout: vacuum: %w", err)
+		return fmt.Errorf("vacuum: %w", err)
 	}
 	return nil
 }

@@ -232,22 +232,47 @@ func TestWriteToLeavesNoTemporaryFile(t *testing.T) {
 
 // TestWriteToInScratchThere: WriteToIn builds its scratch database in the folder it is given
 // (a caller's staging folder, which the next run clears after a killed one), with a name
-// starting with a dot, and removes it; the system's temporary folder is not used. Not
-// parallel: it points TMPDIR at a folder of its own.
+// starting with a dot, and removes it; the system's temporary folder is not used. The folder's
+// name may hold what an SQLite URI reads otherwise ('#' a fragment, '?' a query, '%41' an
+// escaped "A", SQLite "URI Filenames" §3.1): the database is built in that folder all the
+// same, and what is copied out is the whole GeoPackage Bytes gives. Not parallel: it points
+// TMPDIR at a folder of its own.
 func TestWriteToInScratchThere(t *testing.T) {
-	sys, dir := t.TempDir(), t.TempDir()
-	t.Setenv("TMPDIR", sys)
-	seen := &scratchSpy{dir: dir}
-	if err := WriteToIn(context.Background(), seen, sample(), dir); err != nil {
+	want, err := Bytes(context.Background(), sample())
+	if err != nil {
 		t.Fatal(err)
 	}
-	if len(seen.names) != 1 || !strings.HasPrefix(seen.names[0], ".spanwright-gpkg-") {
-		t.Errorf("while writing, %s held %v; want one scratch file named .spanwright-gpkg-*", dir, seen.names)
-	}
-	for _, d := range []string{sys, dir} {
-		if ents, _ := os.ReadDir(d); len(ents) != 0 {
-			t.Errorf("left in %s: %v", d, ents)
-		}
+	// The cases' names are plain, so that the test's own temporary folders hold none of these.
+	for _, tc := range []struct{ name, folder string }{
+		{"plain", "plain"}, {"hash", "x#1"}, {"question mark", "what?now"}, {"percent", "a%41b"},
+		{"space", "two words"}, {"all", "#?%41 all"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			sys, top := t.TempDir(), t.TempDir()
+			t.Setenv("TMPDIR", sys)
+			dir := filepath.Join(top, tc.folder)
+			if err := os.Mkdir(dir, 0o755); err != nil {
+				t.Fatal(err)
+			}
+			seen := &scratchSpy{dir: dir}
+			if err := WriteToIn(context.Background(), seen, sample(), dir); err != nil {
+				t.Fatal(err)
+			}
+			if len(seen.names) != 1 || !strings.HasPrefix(seen.names[0], ".spanwright-gpkg-") {
+				t.Errorf("while writing, %s held %v; want one scratch file named .spanwright-gpkg-*", dir, seen.names)
+			}
+			if !bytes.Equal(seen.buf.Bytes(), want) {
+				t.Errorf("wrote %d bytes, want the %d of Bytes", seen.buf.Len(), len(want))
+			}
+			for _, d := range []string{sys, dir} {
+				if ents, _ := os.ReadDir(d); len(ents) != 0 {
+					t.Errorf("left in %s: %v", d, ents)
+				}
+			}
+			if ents, _ := os.ReadDir(top); len(ents) != 1 {
+				t.Errorf("beside %s: %v; want nothing else", dir, ents)
+			}
+		})
 	}
 }
 
@@ -256,6 +281,7 @@ type scratchSpy struct {
 	dir   string
 	names []string
 	done  bool
+	buf   bytes.Buffer
 }
 
 func (s *scratchSpy) Write(p []byte) (int, error) {
@@ -266,5 +292,31 @@ func (s *scratchSpy) Write(p []byte) (int, error) {
 			s.names = append(s.names, e.Name())
 		}
 	}
-	return len(p), nil
+	return s.buf.Write(p)
+}
+
+// TestCopyBuiltRefusesEmpty: a scratch file SQLite left empty (it built the database in
+// another file, as a URI cut short at a '#' made it do) is an error naming the file, and
+// nothing is written; a built one is copied whole.
+func TestCopyBuiltRefusesEmpty(t *testing.T) {
+	t.Parallel()
+	name := filepath.Join(t.TempDir(), ".spanwright-gpkg-1.gpkg")
+	if err := os.WriteFile(name, nil, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	var buf bytes.Buffer
+	err := copyBuilt(&buf, name)
+	if err == nil || !strings.Contains(err.Error(), name+": the file is empty") || buf.Len() != 0 {
+		t.Errorf("empty scratch file: got %v and %d bytes; want an error naming %s, nothing written", err, buf.Len(), name)
+	}
+	want, err := Bytes(context.Background(), sample())
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(name, want, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if err := copyBuilt(&buf, name); err != nil || !bytes.Equal(buf.Bytes(), want) {
+		t.Errorf("built file: %v, %d bytes of %d", err, buf.Len(), len(want))
+	}
 }

@@ -17,7 +17,7 @@ func TestDidYouMean(t *testing.T) {
 		{"hux", ""},  // hub and hut are both one edit away
 		{"zzzzzz", ""},
 	} {
-		if got := didYouMean(c.key, known); got != c.want {
+		if got := DidYouMean(c.key, known); got != c.want {
 			t.Errorf("%s: got %q, want %q", c.key, got, c.want)
 		}
 	}

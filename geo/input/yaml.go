@@ -302,7 +302,7 @@ func (d *Decoder) structure(n *yaml.Node, v reflect.Value, at loc) {
 		}
 		fi, ok := fields[k.Value]
 		if !ok {
-			d.fail(k, kl, Errorf(ErrUnknownKey, "unknown key;%s want one of %s", didYouMean(k.Value, fields), sortedKeys(fields)))
+			d.fail(k, kl, Errorf(ErrUnknownKey, "unknown key;%s want one of %s", DidYouMean(k.Value, fields), sortedKeys(fields)))
 			continue
 		}
 		kl.rng, kl.keyRng = d.tagRange(t.Field(fi), "range"), d.tagRange(t.Field(fi), "keyrange")
@@ -385,11 +385,12 @@ func (mg *merger) pairs(n *yaml.Node) [][2]*yaml.Node {
 	return out
 }
 
-// didYouMean returns " did you mean KEY?" naming the known key nearest to key, when exactly
+// DidYouMean returns " did you mean KEY?" naming the known key nearest to key, when exactly
 // one is nearest and within a third of key's length in edits (insertions, deletions,
 // substitutions; at least one edit), or starts with key and "_" (a unit left off: snap for
-// snap_m); "" otherwise.
-func didYouMean[V any](key string, known map[string]V) string {
+// snap_m); "" otherwise. It is the one hint of every unknown key: a YAML file's (Decoder)
+// and a sweep file's dotted plan keys (design.snap_mm).
+func DidYouMean[V any](key string, known map[string]V) string {
 	best, bestD, ties := "", max(1, len(key)/3)+1, 0
 	for _, k := range slices.Sorted(maps.Keys(known)) {
 		d := editDistance(key, k)

@@ -111,7 +111,7 @@ func (sc *schedule) work() {
 		p := sc.parts[i]
 		err := sc.ctxs[i].Err()
 		if err == nil {
-			ctx := context.WithValue(sc.ctxs[i], scratchKey{}, sc.set.tmp)
+			ctx := WithScratchDir(sc.ctxs[i], sc.set.tmp)
 			err = sc.set.write(p.Name, func(w io.Writer) error { return p.Render(ctx, w) })
 		}
 		sc.end(i, err)
@@ -162,11 +162,19 @@ func (sc *schedule) end(i int, err error) {
 // scratchKey is the context key of ScratchDir.
 type scratchKey struct{}
 
-// ScratchDir returns, to a renderer that WriteParts runs, the set's staging folder: a
+// ScratchDir returns, to a renderer, the folder its scratch files go in (WithScratchDir): a
 // renderer that needs a scratch file (the GeoPackage is built in one) makes it there, with a
 // name that starts with a dot and is no output's, and removes it before it returns; a killed
-// run leaves it in the staging folder, which the next run clears. "" outside WriteParts.
+// run leaves it in that staging folder, which the next run clears. WriteParts gives its
+// renderers the set's staging folder, a sweep a scenario's. "" when none was given: the
+// system's temporary folder.
 func ScratchDir(ctx context.Context) string {
 	dir, _ := ctx.Value(scratchKey{}).(string)
 	return dir
+}
+
+// WithScratchDir returns ctx carrying dir as its renderers' ScratchDir: a staging folder that
+// the next run clears when this one is killed.
+func WithScratchDir(ctx context.Context, dir string) context.Context {
+	return context.WithValue(ctx, scratchKey{}, dir)
 }

@@ -234,43 +234,52 @@ func TestWritePartsStopped(t *testing.T) {
 }
 
 // TestScratchDirIsStaging: a renderer that WriteParts runs is given the set's staging folder
-// as its scratch folder (not the output folder, not the system's temporary folder), and a
-// scratch file it removes before returning leaves nothing in the committed set.
+// as its scratch folder, exactly (Begin's hidden sibling of the output folder, BeginInPlace's
+// journal folder in it), and a scratch file it removes before returning leaves nothing in the
+// committed set. WithScratchDir is what gives it.
 func TestScratchDirIsStaging(t *testing.T) {
-	var dirs []string
-	var mu sync.Mutex
-	parts := partsOf("new", func(ctx context.Context, i int) error {
-		dir := ScratchDir(ctx)
-		f, err := os.CreateTemp(dir, ".scratch-*")
-		if err != nil {
-			return err
-		}
-		f.Close()
-		mu.Lock()
-		dirs = append(dirs, dir)
-		mu.Unlock()
-		return os.Remove(f.Name())
-	})
-	set, out := beginPartsWith(t, context.Background(), parts, begins[0].begin)
-	defer set.Abort()
-	if err := set.WriteParts(parts, 2, 0); err != nil {
-		t.Fatal(err)
-	}
-	if err := set.Commit(); err != nil {
-		t.Fatal(err)
-	}
-	if len(dirs) == 0 {
-		t.Fatal("no renderer ran")
-	}
-	for _, d := range dirs {
-		if d == "" || d == out || d == os.TempDir() {
-			t.Errorf("scratch folder %q; want the set's staging folder", d)
-		}
+	for _, b := range begins {
+		t.Run(b.name, func(t *testing.T) {
+			var dirs []string
+			var mu sync.Mutex
+			parts := partsOf("new", func(ctx context.Context, i int) error {
+				dir := ScratchDir(ctx)
+				f, err := os.CreateTemp(dir, ".scratch-*")
+				if err != nil {
+					return err
+				}
+				f.Close()
+				mu.Lock()
+				dirs = append(dirs, dir)
+				mu.Unlock()
+				return os.Remove(f.Name())
+			})
+			set, out := beginPartsWith(t, context.Background(), parts, b.begin)
+			defer set.Abort()
+			staging := set.tmp
+			if err := set.WriteParts(parts, 2, 0); err != nil {
+				t.Fatal(err)
+			}
+			if err := set.Commit(); err != nil {
+				t.Fatal(err)
+			}
+			if len(dirs) != len(parts) {
+				t.Fatalf("%d renderers ran, want %d", len(dirs), len(parts))
+			}
+			for _, d := range dirs {
+				if d != staging || staging == "" {
+					t.Errorf("scratch folder %q; want the set's staging folder %q", d, staging)
+				}
+			}
+			wholeSet(t, out, "new")
+			noLeftovers(t, out)
+			noLeftovers(t, filepath.Dir(out))
+		})
 	}
 	if ScratchDir(context.Background()) != "" {
 		t.Error("ScratchDir outside WriteParts is not empty")
 	}
-	wholeSet(t, out, "new")
-	noLeftovers(t, out)
-	noLeftovers(t, filepath.Dir(out))
+	if got := ScratchDir(WithScratchDir(context.Background(), "x")); got != "x" {
+		t.Errorf("ScratchDir of WithScratchDir(x): %q", got)
+	}
 }

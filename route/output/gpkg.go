@@ -8,12 +8,12 @@ import (
 	"io"
 	"math"
 	"slices"
-	"spanwright/route/fileset"
 	"strings"
 
 	"spanwright/geo"
 	"spanwright/geo/gpkgout"
 	"spanwright/route"
+	"spanwright/route/fileset"
 	"spanwright/route/internal/ctxio"
 	"spanwright/route/items"
 	"spanwright/route/routing"

@@ -353,11 +353,17 @@ func InfeasibleInUnits(opt WriteOptions, err error) error {
 	if !opt.imperial() || !errors.As(err, &ie) {
 		return err
 	}
-	legs := make([]string, len(ie.Legs))
-	for i, l := range ie.Legs {
-		legs[i] = InUnits(opt, l)
+	return &route.InfeasibleError{Legs: legsInUnits(opt, ie.Legs), Listed: ie.Listed}
+}
+
+// legsInUnits is legs ("link/leg: reason", route.Result.InfeasibleLegs) with the lengths of
+// their reasons in the run's units (InUnits).
+func legsInUnits(opt WriteOptions, legs []string) []string {
+	out := make([]string, len(legs))
+	for i, l := range legs {
+		out[i] = InUnits(opt, l)
 	}
-	return &route.InfeasibleError{Legs: legs}
+	return out
 }
 
 // passageHead names links.csv's columns of passageText.
@@ -637,19 +643,7 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 		fmt.Fprintf(w, "note: %s\n", t(n))
 	}
 	if s.Infeasible > 0 {
-		fmt.Fprintf(w, "%s infeasible:\n", Counted(s.Infeasible, "leg", "legs"))
-		shown := 0
-		for _, l := range r.Legs {
-			if l.Feasible {
-				continue
-			}
-			if shown == route.ShownInfeasible {
-				fmt.Fprintf(w, "  and %d more; links.csv lists every leg with its reason\n", s.Infeasible-shown)
-				break
-			}
-			fmt.Fprintf(w, "  %s/%s: %s\n", t(l.Link.ID), t(l.Name), t(InUnits(opt, l.Reason)))
-			shown++
-		}
+		fmt.Fprintf(w, "%s infeasible:\n%s", Counted(s.Infeasible, "leg", "legs"), route.InfeasibleList(legsInUnits(opt, r.InfeasibleLegs())))
 	}
 	if len(s.MediaMix) > 0 {
 		links := map[string]map[string]bool{}
@@ -761,11 +755,19 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 }
 
 // PricedNote says, when some legs are infeasible, that the plan's costs price only the
-// feasible ones (an infeasible leg has no route, no medium and no bill lines); "" when every
-// leg is feasible. The terminal and the report print it beside the total.
+// feasible ones (an infeasible leg has no route, no medium and no bill lines), or, when every
+// leg is, that no leg is priced; "" when every leg is feasible. The terminal and the report
+// print it beside the total.
 func (s Summary) PricedNote() string {
 	if s.Infeasible == 0 {
 		return ""
+	}
+	if s.Infeasible == s.Legs {
+		which := "the one leg is"
+		if s.Legs != 1 {
+			which = fmt.Sprintf("all %d legs are", s.Legs)
+		}
+		return "no leg is priced: " + which + " infeasible (no route or medium was found)"
 	}
 	return fmt.Sprintf("the total prices the %s of %d only; %s not priced (no route or medium was found)",
 		Counted(s.Legs-s.Infeasible, "feasible leg", "feasible legs"), s.Legs, Counted(s.Infeasible, "infeasible leg is", "infeasible legs are"))

@@ -13,6 +13,9 @@ func TestPricedNote(t *testing.T) {
 		{10, 0, ""},
 		{1017, 911, "the total prices the 106 feasible legs of 1017 only; 911 infeasible legs are not priced (no route or medium was found)"},
 		{2, 1, "the total prices the 1 feasible leg of 2 only; 1 infeasible leg is not priced (no route or medium was found)"},
+		// Every leg infeasible: said plainly, not "prices the 0 feasible legs of 5 only".
+		{5, 5, "no leg is priced: all 5 legs are infeasible (no route or medium was found)"},
+		{1, 1, "no leg is priced: the one leg is infeasible (no route or medium was found)"},
 	} {
 		if got := (Summary{Legs: c.legs, Infeasible: c.infeasible}).PricedNote(); got != c.want {
 			t.Errorf("%d of %d infeasible: got %q, want %q", c.infeasible, c.legs, got, c.want)

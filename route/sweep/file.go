@@ -102,6 +102,14 @@ func parse(name string, data []byte, maxBytes int64) (*File, error) {
 		errs.Sort()
 		return nil, errs.Err()
 	}
+	if key := planFileKey(sf.At); key != "" {
+		// Its keys are all unknown to a sweep file: say what the file is instead.
+		errs = input.Problems{}
+		line, col := sf.At.At(key)
+		dec.Fail(line, col, "", key, input.Errorf(input.ErrUnknownKey,
+			"this is a plan file (it has %s: and no base:, vary: or cases:), not a sweep file; run `spanwright plan %s --out DIR`, or name it as base: in a sweep file", key, name))
+		return nil, errs.Err()
+	}
 	if sf.At.Has("base") {
 		if v := &sf.Base; v.Kind != yaml.ScalarNode || v.Tag != "!!str" || v.Value == "" {
 			bad(v, "", "base", input.Errorf(ErrWrongType, "want the plan file's name, got %s", input.KindName(v)))
@@ -138,6 +146,21 @@ func parse(name string, data []byte, maxBytes int64) (*File, error) {
 		return nil, err
 	}
 	return f, nil
+}
+
+// planFileKey returns the key that makes a file read as a sweep file a plan (campus or
+// campus_database, one of which every plan has) when it has none of a sweep file's keys;
+// "" otherwise. It mirrors the plan's own check for a sweep file given as a plan.
+func planFileKey(at input.Mapping) string {
+	if at.Has("base") || at.Has("vary") || at.Has("cases") {
+		return ""
+	}
+	for _, k := range []string{"campus", "campus_database"} {
+		if at.Has(k) {
+			return k
+		}
+	}
+	return ""
 }
 
 // parsePlanYAML parses a plan file's YAML document, which must be a mapping with no key

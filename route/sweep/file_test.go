@@ -152,7 +152,7 @@ func TestParseErrors(t *testing.T) {
 		text     string
 		sentinel error
 	}{
-		{"bad.yaml:5:3: vary: defaults.speed: unknown key; want one of budget,", ErrUnknownKey},
+		{"bad.yaml:5:3: vary: defaults.speed: unknown key; did you mean defaults.rate? want one of budget,", ErrUnknownKey},
 		{`bad.yaml:6:24: vary: design.snap_m: want a number, got "wide"`, ErrWrongType},
 		{`bad.yaml:7:28: vary: design.allow_new_trench: want a non-empty list of values, got "yes"`, ErrWrongType},
 		{`bad.yaml:9:44: case "strands-text": defaults.strands: want an integer, got "many"`, ErrWrongType},
@@ -181,8 +181,13 @@ func TestParseErrors(t *testing.T) {
 		{"base not a plan", "base: bad-base.yaml\nvary: {hub: [ADM]}", "bad-base.yaml:2:1: want a mapping of plan keys, got a list"},
 		{"nothing to sweep", "base: ../demo/plan.yaml", "nothing to sweep"},
 		{"empty sections", "base: ../demo/plan.yaml\nvary: {}\ncases: []", "nothing to sweep"},
+		// A misspelt dotted key gets the hint a plan's key gets (input.DidYouMean).
+		{"dotted key typo", "base: ../demo/plan.yaml\nvary: {design.snap_mm: [1]}", "x.yaml:2:8: vary: design.snap_mm: unknown key; did you mean design.snap_m? want one of budget,"},
+		{"section typo", "base: ../demo/plan.yaml\ncases: [{name: c, desgin.slack_m: 3}]", `x.yaml:2:19: case "c": desgin.slack_m: unknown key; did you mean design.slack_m? want one of budget,`},
 		{"unknown top key", "base: ../demo/plan.yaml\nvary: {hub: [ADM]}\nextra: 1", "x.yaml:3:1: extra: unknown key; want one of base, cases, vary"},
 		{"not a mapping", "[1, 2]", "x.yaml:1:1: want a mapping, got a list"},
+		{"a plan file", "name: p\ncampus: [c.geojson]\nhub: ADM\n", "x.yaml:2:1: campus: this is a plan file (it has campus: and no base:, vary: or cases:), not a sweep file; run `spanwright plan "},
+		{"a plan of a database", "campus_database: {table: t}\n", "campus_database: this is a plan file"},
 		{"not YAML", "base: [", "not YAML"},
 		{"empty axis", "base: ../demo/plan.yaml\nvary: {hub: []}", "x.yaml:2:13: vary: hub: want a non-empty list of values, got an empty list"},
 		{"same scenario twice", "base: ../demo/plan.yaml\nvary: {hub: [ADM, ADM]}", `x.yaml:2: vary: scenario id "adm-4de93e1a" used twice: scenario 0 (hub=ADM) has the same overrides`},

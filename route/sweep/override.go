@@ -99,7 +99,7 @@ func parseOverride(key string, v *yaml.Node) (Override, error) {
 		if key == "links" || strings.HasPrefix(key, "links.") {
 			hint = "; the links list cannot be varied: write another plan and use it as base"
 		}
-		return Override{}, input.Errorf(ErrUnknownKey, "unknown key; want one of %s%s", keyList(), hint)
+		return Override{}, input.Errorf(ErrUnknownKey, "unknown key;%s want one of %s%s", input.DidYouMean(key, settings()), keyList(), hint)
 	}
 	o := Override{Key: key, Line: v.Line, node: v, set: st}
 	if v.Kind == yaml.AliasNode {

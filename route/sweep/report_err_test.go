@@ -4,9 +4,10 @@ import (
 	"errors"
 	"os"
 	"path/filepath"
-	"spanwright/route"
 	"strings"
 	"testing"
+
+	"spanwright/route"
 )
 
 // TestReportErrInfeasible: scenarios with infeasible legs end the sweep with exit status 3

@@ -118,7 +118,8 @@ type Report struct {
 	DemoPrices int      // scenarios priced by the invented demo price book
 	Files      []string // files written besides the scenario folders, sorted
 	// Notes say what the run did that the user may not expect: a kept base scenario planned
-	// again because its folder was not as the sweep wrote it.
+	// again because its folder was not as the sweep wrote it, folders in the output folder
+	// that no scenario of this sweep file has.
 	Notes []string
 }
 
@@ -220,6 +221,9 @@ func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
 		return nil, err
 	}
 	rows, err := r.runAll(ctx, mine)
+	if b := r.base; b != nil && b.out != nil {
+		os.RemoveAll(b.out.stage) // not published when the sweep stopped first (published, it is gone)
+	}
 	r.emptyTrash()
 	if n := r.formatNote(); n != "" {
 		r.notes = append(r.notes, n)
@@ -464,6 +468,10 @@ type outcome struct {
 	row     Row
 	files   []fileset.OutputFile
 	skipped bool // kept as it was (Options.Resume)
+	// stage is the scenario's staging folder (runner.stage), made before its files were
+	// rendered so that their scratch files went there; publish puts it in place. "" when
+	// none was made (kept, or failed before planning).
+	stage string
 }
 
 // runAll plans the scenarios on a pool of workers, writes their folders on a pool of writers,
@@ -504,7 +512,7 @@ func (r *runner) runAll(ctx context.Context, list []Scenario) ([]Row, error) {
 				wg.Add(1)
 				go func() {
 					defer wg.Done()
-					err := r.publish(out.row.ID, out.files)
+					err := r.publish(out.row.ID, out.stage, out.files)
 					<-writers
 					results <- result{pos, out.row, err}
 				}()
@@ -621,17 +629,45 @@ func (r *runner) scenario(ctx context.Context, sc Scenario, resume bool) (outcom
 		}
 		return fail(err)
 	}
-	files, err := output.Files(ctx, res, r.opt.Write)
+	if !r.opt.Shard.Has(sc.Index) {
+		// Another shard's scenario (the base, planned by every shard for its warm start):
+		// nothing of it is written here, and only its routes are read (planBase).
+		files, err := routesOnly(ctx, res, r.opt.Write)
+		if ctx.Err() != nil {
+			return out, ctx.Err()
+		}
+		if err != nil {
+			return fail(err)
+		}
+		out.row.fill(output.Summarize(res))
+		out.files = files
+		return out, nil
+	}
+	// The renderers' scratch files (plan.gpkg is built in one) go into the scenario's staging
+	// folder, as `spanwright plan`'s go into its set's: never into the system's temporary
+	// folder, and what a killed sweep leaves there the next run clears. Only this shard's
+	// scenarios have one: clean, at another shard's start, removes the staging folders of
+	// that shard's scenarios.
+	if out.stage, err = r.stage(sc.ID); err != nil {
+		return out, err
+	}
+	stop := func(err error) (outcome, error) {
+		os.RemoveAll(out.stage)
+		out.stage = ""
+		return out, err
+	}
+	rctx := fileset.WithScratchDir(ctx, out.stage)
+	files, err := output.Files(rctx, res, r.opt.Write)
 	if ctx.Err() != nil {
-		return out, ctx.Err()
+		return stop(ctx.Err())
 	}
 	if err != nil {
 		return fail(err)
 	}
 	if r.opt.Extra != nil {
-		more, err := r.opt.Extra(ctx, res)
+		more, err := r.opt.Extra(rctx, res)
 		if ctx.Err() != nil {
-			return out, ctx.Err()
+			return stop(ctx.Err())
 		}
 		if err != nil {
 			return fail(fmt.Errorf("extra outputs: %w", err))
@@ -654,6 +690,20 @@ func (r *runner) scenario(ctx context.Context, sc Scenario, resume bool) (outcom
 	}
 	out.files = files
 	return out, nil
+}
+
+// routesOnly renders a planned scenario's routes file alone, as output.Files renders it.
+func routesOnly(ctx context.Context, res *route.Result, opt output.WriteOptions) ([]fileset.OutputFile, error) {
+	for _, f := range output.Outputs(res, opt) {
+		if f.Name == output.RoutesFile {
+			var buf bytes.Buffer
+			if err := f.Render(ctx, &buf); err != nil {
+				return nil, err
+			}
+			return []fileset.OutputFile{{Name: f.Name, Data: buf.Bytes()}}, nil
+		}
+	}
+	panic("sweep: no " + output.RoutesFile + " among the outputs")
 }
 
 // planYAML renders the scenario's plan: the base plan with file names made relative to the
@@ -871,12 +921,29 @@ func htmlIn(dir string) string {
 	return ""
 }
 
-// publish writes a scenario folder whole: the files go into a temporary folder with
-// fileset.WriteFresh, which is then renamed to the scenario id, replacing an older folder.
-// Failures are *fileset.OutputError naming the scenario folder.
-func (r *runner) publish(id string, files []fileset.OutputFile) error {
+// stage makes the staging folder of scenario id in the output folder (tmpPrefix, the id, a
+// dot, digits: clean removes it after a killed run). Failures are *fileset.OutputError
+// naming the scenario folder.
+func (r *runner) stage(id string) (string, error) {
+	tmp, err := os.MkdirTemp(r.out, tmpPrefix+id+".")
+	if err == nil {
+		if err = os.Chmod(tmp, 0o755); err != nil {
+			os.RemoveAll(tmp)
+		}
+	}
+	if err != nil {
+		return "", fmt.Errorf("scenario %s: %w", id, &fileset.OutputError{Path: filepath.Join(r.out, id), Err: err})
+	}
+	return tmp, nil
+}
+
+// publish writes a scenario folder whole: the files go into its staging folder (stage, or a
+// new one when "") with fileset.WriteFresh, which is then renamed to the scenario id,
+// replacing an older folder. Failures are *fileset.OutputError naming the scenario folder;
+// the staging folder is removed.
+func (r *runner) publish(id, stage string, files []fileset.OutputFile) error {
 	final := filepath.Join(r.out, id)
-	var tmp string
+	tmp := stage
 	fail := func(err error) error {
 		var oe *fileset.OutputError
 		if errors.As(err, &oe) {
@@ -887,19 +954,17 @@ func (r *runner) publish(id string, files []fileset.OutputFile) error {
 		}
 		return fmt.Errorf("scenario %s: %w", id, &fileset.OutputError{Path: final, Err: err})
 	}
-	tmp, err := os.MkdirTemp(r.out, tmpPrefix+id+".")
-	if err != nil {
-		return fail(err)
-	}
-	if err := os.Chmod(tmp, 0o755); err != nil {
-		os.RemoveAll(tmp)
-		return fail(err)
+	if tmp == "" {
+		var err error
+		if tmp, err = r.stage(id); err != nil {
+			return err
+		}
 	}
 	if err := fileset.WriteFresh(tmp, files); err != nil {
 		os.RemoveAll(tmp)
 		return fail(err)
 	}
-	err = os.Rename(tmp, final)
+	err := os.Rename(tmp, final)
 	if err != nil {
 		// An older folder is in the way: move it aside, put the new one in place, and drop
 		// the old one when the scenarios are done (see runner.trash).

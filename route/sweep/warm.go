@@ -7,9 +7,12 @@ import (
 	"encoding/hex"
 	"errors"
 	"fmt"
+	"io"
+	"os"
 	"path/filepath"
 	"slices"
 	"strings"
+	"syscall"
 
 	"spanwright/geo/input"
 	"spanwright/route/fileset"
@@ -64,7 +67,7 @@ func (r *runner) planBase(ctx context.Context) error {
 		if err == nil {
 			st, err = output.ParseStart(path, routes)
 		}
-		if err == nil && !outputsIntact(dir, r.f.MaxInputBytes) {
+		if err == nil && !outputsIntact(dir) {
 			err = errChanged
 		}
 		if err != nil {
@@ -169,9 +172,11 @@ func outputsFile(files []fileset.OutputFile) fileset.OutputFile {
 
 // outputsIntact reports whether the scenario folder dir holds an outputs.sha256 whose every
 // file is there with its hash: false for a file edited or removed by hand, and for a folder
-// written before outputs.sha256 existed.
-func outputsIntact(dir string, maxBytes int64) bool {
-	list, err := input.ReadFile(filepath.Join(dir, OutputsFile), input.Cap(maxBytes, input.DefaultTextMiB))
+// written before outputs.sha256 existed. The files are the sweep's own outputs, hashed as
+// streams (fileSum): the input cap (--max-input-mb) is not theirs, and a small one must not
+// pass for a hand edit.
+func outputsIntact(dir string) bool {
+	list, err := input.ReadFile(filepath.Join(dir, OutputsFile), input.Cap(0, input.DefaultTextMiB))
 	if err != nil || len(list) == 0 {
 		return false
 	}
@@ -180,13 +185,30 @@ func outputsIntact(dir string, maxBytes int64) bool {
 		if !ok || strings.ContainsAny(name, "/\\") || name == "" {
 			return false // the sweep names only files of the folder itself, plainly
 		}
-		data, err := input.ReadFile(filepath.Join(dir, name), input.Cap(maxBytes, input.DefaultDataMiB))
-		if err != nil {
-			return false
-		}
-		if sum := sha256.Sum256(data); hex.EncodeToString(sum[:]) != want {
+		if sum, err := fileSum(filepath.Join(dir, name)); err != nil || sum != want {
 			return false
 		}
 	}
 	return true
+}
+
+// fileSum returns the SHA-256, in hex, of the regular file at path, read as a stream
+// whatever its size; anything but a regular file is an error (O_NONBLOCK: a named pipe in
+// its place must not wait for a writer).
+func fileSum(path string) (string, error) {
+	f, err := os.OpenFile(path, os.O_RDONLY|syscall.O_NONBLOCK, 0)
+	if err != nil {
+		return "", err
+	}
+	defer f.Close()
+	if st, err := f.Stat(); err != nil {
+		return "", err
+	} else if !st.Mode().IsRegular() {
+		return "", fmt.Errorf("%s: not a regular file", path)
+	}
+	h := sha256.New()
+	if _, err := io.Copy(h, f); err != nil {
+		return "", err
+	}
+	return hex.EncodeToString(h.Sum(nil)), nil
 }

@@ -203,3 +203,24 @@ func TestResumeReplansEditedBase(t *testing.T) {
 		}
 	}
 }
+
+// TestResumeOutputsPastCap resumes a sweep whose input cap (--max-input-mb, File.MaxInputBytes)
+// is smaller than one of the base scenario's outputs (plan.gpkg, about 118 kB, beside a
+// 100 kB cap that the inputs fit): outputs are hashed as streams, never read as inputs, so
+// every scenario is kept and no note blames a hand edit.
+func TestResumeOutputsPastCap(t *testing.T) {
+	t.Parallel()
+	f := parseInline(t, "vary:\n  design.slack_m: [3, 6]")
+	const capBytes = 100_000
+	f.MaxInputBytes = capBytes
+	dir := t.TempDir()
+	run(t, f, Options{Out: dir})
+	base := f.Scenarios()[0]
+	if st, err := os.Stat(filepath.Join(dir, base.ID, "plan.gpkg")); err != nil || st.Size() <= capBytes {
+		t.Fatalf("plan.gpkg %v: want it larger than the cap, %d bytes", err, capBytes)
+	}
+	rep := run(t, f, Options{Out: dir, Resume: true})
+	if rep.Skipped != rep.Run || len(rep.Notes) != 0 {
+		t.Errorf("resume: %d of %d kept, notes %q; want all kept, no note", rep.Skipped, rep.Run, rep.Notes)
+	}
+}
