@@ -4,7 +4,6 @@ import (
 	"bytes"
 	"context"
 	"encoding/json"
-	"errors"
 	"fmt"
 	"io"
 	"maps"
@@ -344,16 +343,6 @@ func InUnits(opt WriteOptions, text string) string {
 		}
 		return strconv.FormatFloat(v*FtPerM, 'f', dec, 64) + " ft"
 	})
-}
-
-// InfeasibleInUnits is err with the reasons of a route.InfeasibleError written in the run's
-// units (InUnits), as the terminal's own list of infeasible legs; any other err unchanged.
-func InfeasibleInUnits(opt WriteOptions, err error) error {
-	var ie *route.InfeasibleError
-	if !opt.imperial() || !errors.As(err, &ie) {
-		return err
-	}
-	return &route.InfeasibleError{Legs: legsInUnits(opt, ie.Legs), Listed: ie.Listed}
 }
 
 // legsInUnits is legs ("link/leg: reason", route.Result.InfeasibleLegs) with the lengths of

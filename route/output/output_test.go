@@ -4,10 +4,8 @@ import (
 	"bytes"
 	"context"
 	"encoding/csv"
-	"errors"
 	"math"
 	"slices"
-	"spanwright/route"
 	"spanwright/route/internal/testplan"
 	"spanwright/route/internal/testsite"
 	"spanwright/route/plan"
@@ -177,21 +175,16 @@ func TestPiecesLine(t *testing.T) {
 	}
 }
 
-// TestInfeasibleInUnits: the reasons of the infeasible legs that plan returns as its error
-// (printed on stderr) are in the run's units, as the terminal's list and links.csv are
-// (1 ft = 0.3048 m exactly, NIST SP 811 B.8), and the error still means infeasible legs.
+// TestInfeasibleInUnits: the reasons of the infeasible legs the terminal lists are in the
+// run's units (1 ft = 0.3048 m exactly, NIST SP 811 B.8), and unchanged in metric.
 func TestInfeasibleInUnits(t *testing.T) {
 	t.Parallel()
-	in := &route.InfeasibleError{Legs: []string{"L-1/primary: om4: the shortest route it may use is 612.3 m along pathways, beyond the 400.0 m it reaches there"}}
-	err := InfeasibleInUnits(WriteOptions{Units: UnitsImperial}, in)
+	in := []string{"L-1/primary: om4: the shortest route it may use is 612.3 m along pathways, beyond the 400.0 m it reaches there"}
 	want := "L-1/primary: om4: the shortest route it may use is 2008.9 ft along pathways, beyond the 1312.3 ft it reaches there"
-	if !errors.Is(err, route.ErrInfeasible) || !strings.Contains(err.Error(), want) {
-		t.Errorf("imperial: got %v, want it to contain %q and mean infeasible legs", err, want)
+	if got := legsInUnits(WriteOptions{Units: UnitsImperial}, in); len(got) != 1 || got[0] != want {
+		t.Errorf("imperial: got %q, want %q", got, want)
 	}
-	if got := InfeasibleInUnits(WriteOptions{}, in); got != error(in) {
-		t.Errorf("metric: got %v, want the error unchanged", got)
-	}
-	if got := InfeasibleInUnits(WriteOptions{Units: UnitsImperial}, nil); got != nil {
-		t.Errorf("no error: got %v", got)
+	if got := legsInUnits(WriteOptions{}, in); len(got) != 1 || got[0] != in[0] {
+		t.Errorf("metric: got %q, want the legs unchanged", got)
 	}
 }
