@@ -178,7 +178,7 @@ const routeCheckEvery = 64
 // routes, returning ctx's error and writing nothing.
 func (n *Network) WriteRoutesContext(ctx context.Context, w io.Writer, feats []RouteFeature) error {
 	var buf bytes.Buffer
-	if err := n.WriteRoutesSeq(ctx, &buf, slices.Values(feats)); err != nil {
+	if err := n.WriteRoutesSeq(ctx, &buf, nil, slices.Values(feats)); err != nil {
 		return err
 	}
 	_, err := w.Write(buf.Bytes())
@@ -190,10 +190,21 @@ const routesPiece = 64 << 10
 
 // WriteRoutesSeq is WriteRoutesContext for routes given one at a time, each written (in
 // pieces of about routesPiece bytes) before the next is asked for, so that neither the
-// routes nor the file are held whole: on failure w may hold part of the file.
-func (n *Network) WriteRoutesSeq(ctx context.Context, w io.Writer, feats iter.Seq[RouteFeature]) error {
+// routes nor the file are held whole: on failure w may hold part of the file. members are
+// text members of the collection itself (GeoJSON's foreign members, RFC 7946 §6.1), each a
+// key and its value, written in their order before the features.
+func (n *Network) WriteRoutesSeq(ctx context.Context, w io.Writer, members [][2]string, feats iter.Seq[RouteFeature]) error {
 	var buf bytes.Buffer
-	buf.WriteString(`{"type":"FeatureCollection","features":[`)
+	buf.WriteString(`{"type":"FeatureCollection",`)
+	for _, m := range members {
+		k, _ := json.Marshal(m[0]) // a string always encodes
+		v, _ := json.Marshal(m[1])
+		buf.Write(k)
+		buf.WriteByte(':')
+		buf.Write(v)
+		buf.WriteByte(',')
+	}
+	buf.WriteString(`"features":[`)
 	i := 0
 	for f := range feats {
 		if i%routeCheckEvery == 0 {

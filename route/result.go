@@ -51,6 +51,9 @@ type Result struct {
 	// StartedFrom names where the optimizer's search began (routing.Start.From: an earlier
 	// plan's folder, a sweep's base scenario); "" for a plan solved from scratch.
 	StartedFrom string
+	// ProblemSHA256 is routing.Routed.ProblemSHA256: the fingerprint of the routing problem
+	// when these routes are its plan from scratch, else "" (routes.geojson's problem_sha256).
+	ProblemSHA256 string
 }
 
 // ErrInfeasible is returned, wrapped in an *InfeasibleError, when a plan finished but some
@@ -157,7 +160,9 @@ func SolveFrom(ctx context.Context, s *site.Site, p *plan.Plan, eng *media.Engin
 	if err != nil {
 		return nil, err
 	}
-	if start != nil {
+	if start != nil && rt.StartSame {
+		pr.notes = append(pr.notes, fmt.Sprintf("started from the routes of %s, a plan of this same routing problem (every route cost, rule and reach the optimizer sees is the same): its plan is this one's too, not searched again", start.From))
+	} else if start != nil {
 		pr.notes = append(pr.notes, startNote(start, links, rt.StartUnused)...)
 	}
 	r := &Result{Plan: p, Site: s, Hub: hub, Links: links, Legs: rt.Legs, Currency: eng.PriceBook().Currency, Engine: eng,
@@ -165,6 +170,7 @@ func SolveFrom(ctx context.Context, s *site.Site, p *plan.Plan, eng *media.Engin
 	if start != nil {
 		r.StartedFrom = start.From
 	}
+	r.ProblemSHA256 = rt.ProblemSHA256
 	for _, w := range s.Net.Warnings {
 		r.Warnings = append(r.Warnings, w.File+": "+w.Feature+": "+w.Message)
 	}

@@ -192,7 +192,9 @@ func TestSweepScenarioReproducedByPlan(t *testing.T) {
 	high, _ := filepath.Abs(filepath.Join(sweepFixtures, "prices-high.yaml"))
 	sweepFile := filepath.Join(dir, "prices.yaml")
 	body := "base: " + base + "\nvary:\n  prices: [" + low + ", " + high + "]\n  design.allow_new_trench: [true, false]\n" +
-		"cases:\n  - {name: all-diverse, defaults.redundancy: diverse, prices: " + high + "}\n"
+		"cases:\n  - {name: all-diverse, defaults.redundancy: diverse, prices: " + high + "}\n" +
+		// The base's optimizer problem (a budget is no route cost): the base's plan, not searched again.
+		"  - {name: same-problem, prices: " + low + ", budget: 500000}\n"
 	if err := os.WriteFile(sweepFile, []byte(body), 0o644); err != nil {
 		t.Fatal(err)
 	}
@@ -220,7 +222,7 @@ func TestSweepScenarioReproducedByPlan(t *testing.T) {
 				first = e.Name()
 			}
 		}
-		if len(scenarios) != 5 || first == "" {
+		if len(scenarios) != 6 || first == "" {
 			t.Fatalf("%s: scenario folders %v, base %q", mode, scenarios, first)
 		}
 		started := 0
@@ -253,8 +255,32 @@ func TestSweepScenarioReproducedByPlan(t *testing.T) {
 				}
 			}
 		}
-		if mode == "warm" && started != 4 {
-			t.Errorf("%d warm scenarios checked, want 4", started)
+		if mode == "warm" && started != 5 {
+			t.Errorf("%d warm scenarios checked, want 5", started)
+		}
+		// Identical problems give identical plans: the same routes, the same objective, whether
+		// warm (the base's plan reused, its summary saying so) or cold.
+		var same string
+		for _, sc := range scenarios {
+			if strings.HasPrefix(sc, "same-problem-") {
+				same = sc
+			}
+		}
+		a, _ := os.ReadFile(filepath.Join(out, first, "routes.geojson"))
+		b, _ := os.ReadFile(filepath.Join(out, same, "routes.geojson"))
+		if same == "" || len(a) == 0 || !bytes.Equal(a, b) || !bytes.HasPrefix(a, []byte(`{"type":"FeatureCollection","problem_sha256":"`)) {
+			t.Errorf("%s: the same-problem scenario %q's routes.geojson is not the base's, with its problem_sha256", mode, same)
+		}
+		objective := func(sc string) string {
+			data, _ := os.ReadFile(filepath.Join(out, sc, "summary.json"))
+			return regexp.MustCompile(`"objective_cents": *\d+`).FindString(string(data))
+		}
+		if objective(first) == "" || objective(first) != objective(same) {
+			t.Errorf("%s: objective %q of the base, %q of the same problem", mode, objective(first), objective(same))
+		}
+		note, _ := os.ReadFile(filepath.Join(out, same, "summary.json"))
+		if reused := bytes.Contains(note, []byte("a plan of this same routing problem")); reused != (mode == "warm") {
+			t.Errorf("%s: the same-problem scenario's summary says the base's plan was reused: %v", mode, reused)
 		}
 	}
 }

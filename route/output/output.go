@@ -204,9 +204,15 @@ func round2(x float64) float64 {
 }
 
 // routesGeoJSON writes routes.geojson: one feature per feasible leg, each built as it is
-// written (geo.Network.WriteRoutesSeq looks at ctx every few routes).
+// written (geo.Network.WriteRoutesSeq looks at ctx every few routes), and, when the routes are
+// the plan from scratch of their routing problem, its fingerprint (problem_sha256: see
+// routing.Start.ProblemSHA256).
 func routesGeoJSON(ctx context.Context, w io.Writer, r *route.Result) error {
-	return r.Site.Net.WriteRoutesSeq(ctx, w, func(yield func(geo.RouteFeature) bool) {
+	var members [][2]string
+	if r.ProblemSHA256 != "" {
+		members = [][2]string{{"problem_sha256", r.ProblemSHA256}}
+	}
+	return r.Site.Net.WriteRoutesSeq(ctx, w, members, func(yield func(geo.RouteFeature) bool) {
 		for i := range r.Legs {
 			if l := &r.Legs[i]; l.Feasible && !yield(routeFeature(r, l)) {
 				return

@@ -78,6 +78,7 @@ func ParseStart(name string, data []byte) (*routing.Start, error) {
 	}
 	var fc struct {
 		Type     string            `json:"type"`
+		Problem  json.RawMessage   `json:"problem_sha256"`
 		Features []json.RawMessage `json:"features"`
 	}
 	if err := json.Unmarshal(data, &fc); err != nil || fc.Type != "FeatureCollection" {
@@ -102,6 +103,10 @@ func ParseStart(name string, data []byte) (*routing.Start, error) {
 		return nil, errs.Err()
 	}
 	st := &routing.Start{}
+	if fc.Problem != nil && (json.Unmarshal(fc.Problem, &st.ProblemSHA256) != nil || !isSHA256(st.ProblemSHA256)) {
+		fail(-1, "", "problem_sha256", input.Errorf(input.ErrWrongType, "want the routing problem's SHA-256 as 64 hexadecimal digits, got %s", fc.Problem))
+		st.ProblemSHA256 = ""
+	}
 	seen := map[[2]string]int{}
 	for i := range fc.Features {
 		pr := props[i]
@@ -160,4 +165,18 @@ func hasEmpty(xs []string) bool {
 		}
 	}
 	return false
+}
+
+// isSHA256 reports whether s is a SHA-256 in lower-case hexadecimal, as routes.geojson's
+// problem_sha256 is written.
+func isSHA256(s string) bool {
+	if len(s) != 64 {
+		return false
+	}
+	for _, c := range s {
+		if (c < '0' || c > '9') && (c < 'a' || c > 'f') {
+			return false
+		}
+	}
+	return true
 }

@@ -40,6 +40,9 @@ func TestReadStartRoundTrip(t *testing.T) {
 	if st.From != "earlier-plan" {
 		t.Errorf("From: got %q, want the folder's name", st.From)
 	}
+	if len(r.ProblemSHA256) != 64 || st.ProblemSHA256 != r.ProblemSHA256 {
+		t.Errorf("problem_sha256 read back as %q, want the plan's %q", st.ProblemSHA256, r.ProblemSHA256)
+	}
 	var want []routing.StartLeg
 	for i := range r.Legs {
 		l := &r.Legs[i]
@@ -91,6 +94,8 @@ func TestParseStartProblems(t *testing.T) {
 {"type":"Feature","properties":{"link":"A-B","leg":"primary","medium":"os2"}},
 {"type":"Feature","properties":{"link":"A-C","leg":"primary","medium":"os2"}}]}`,
 			[]string{`r.geojson: no feature has the property "spans" (the leg's span IDs): a routes.geojson written by an older spanwright; plan it again`}},
+		{"problem fingerprint", `{"type":"FeatureCollection","problem_sha256":"ABC","features":[{"type":"Feature","properties":{"link":"A-B","leg":"primary","medium":"os2","spans":[]}}]}`,
+			[]string{`r.geojson: problem_sha256: want the routing problem's SHA-256 as 64 hexadecimal digits, got "ABC"`}},
 		{"leg name", `{"type":"FeatureCollection","features":[{"type":"Feature","properties":{"link":"A-B","leg":"sideways","medium":"os2","spans":[]}}]}`,
 			[]string{`feature #0 (no id): property "leg": want "primary" or "diverse", got "sideways"`}},
 	} {

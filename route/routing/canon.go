@@ -3,6 +3,7 @@ package routing
 import (
 	"cmp"
 	"context"
+	"encoding/hex"
 	"slices"
 	"strings"
 
@@ -257,21 +258,34 @@ func (c *canonical) start(routes []optimize.StartRoute) []optimize.StartRoute {
 //
 // The optimizer sees the problem in canonical order (canon.go), so that the plan depends on
 // the campus's geometry and costs, not on the names of its ids.
-func solve(ctx context.Context, s *site.Site, lay *layout, prob *optimize.Problem, opt optimize.Settings) (*optimize.Solution, error) {
+//
+// cold is the hex SHA-256 of the problem and settings without the start (optimize.Fingerprint),
+// "" when it has none. When opt has a start and cold is same (the fingerprint of the problem
+// the start's routes were solved for from scratch: Start.ProblemSHA256), the start is
+// dropped: the answer is that problem's own, the one the start came from (reused says so).
+func solve(ctx context.Context, s *site.Site, lay *layout, prob *optimize.Problem, opt optimize.Settings, same string) (sol *optimize.Solution, cold string, reused bool, err error) {
 	c := canonicalize(prob, func(n int) [2]float64 { return lay.at[n] }, func(n int) string { return lay.name[n] })
-	opt.Start = c.start(opt.Start)
+	start := c.start(opt.Start)
+	opt.Start = nil
+	if sum, ok := optimize.Fingerprint(c.prob, opt); ok {
+		cold = hex.EncodeToString(sum[:])
+	}
+	reused = start != nil && cold != "" && same == cold
+	if !reused {
+		opt.Start = start
+	}
 	key, ok := optimize.Fingerprint(c.prob, opt)
 	if ok {
 		if sol, hit := s.Solved.Get(key); hit {
-			return c.back(sol), nil
+			return c.back(sol), cold, reused, nil
 		}
 	}
-	sol, err := optimize.SolveContext(ctx, c.prob, opt)
+	sol, err = optimize.SolveContext(ctx, c.prob, opt)
 	if err != nil {
-		return nil, err
+		return nil, "", false, err
 	}
 	if ok {
 		s.Solved.Add(key, sol)
 	}
-	return c.back(sol), nil
+	return c.back(sol), cold, reused, nil
 }

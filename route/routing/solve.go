@@ -43,6 +43,16 @@ type Routed struct {
 	// fit this plan (another network, hub or medium, a span gone, beyond reach) and were
 	// placed afresh, each as its ID and why in brackets; nil without a start.
 	StartUnused []string
+	// StartSame reports that SolveFrom's start came from a plan of this very routing problem
+	// solved from scratch (Start.ProblemSHA256): its routes were not searched from, the
+	// problem's own plan is the answer, the same as without the start.
+	StartSame bool
+	// ProblemSHA256 is the fingerprint of the routing problem these routes are the plan of
+	// when solved from scratch (optimize.Fingerprint of the canonical problem and settings,
+	// hex): set when there was no start, or StartSame; "" for a plan searched from a start,
+	// and for a problem without a fingerprint. routes.geojson carries it (problem_sha256), so
+	// that a warm start from it can tell its own problem (Start.ProblemSHA256).
+	ProblemSHA256 string
 }
 
 // EntranceUse is a building entrance the plan uses.
@@ -84,15 +94,22 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 	if start != nil {
 		opt.Start, unfit = startRoutes(s, lay, prob, start)
 	}
-	sol, err := solve(ctx, s, lay, prob, opt)
+	var same string
+	if start != nil {
+		same = start.ProblemSHA256
+	}
+	sol, cold, reused, err := solve(ctx, s, lay, prob, opt, same)
 	if err != nil {
 		if ctx.Err() != nil {
 			return nil, ctx.Err()
 		}
 		return nil, fmt.Errorf("route: optimizer: %w", err)
 	}
-	r := &Routed{ObjectiveCents: sol.TotalCents, LowerBoundCents: sol.LowerBoundCents, Fill: fillReport(s, prob, sol)}
-	if start != nil {
+	r := &Routed{ObjectiveCents: sol.TotalCents, LowerBoundCents: sol.LowerBoundCents, Fill: fillReport(s, prob, sol), StartSame: reused}
+	if start == nil || reused {
+		r.ProblemSHA256 = cold
+	}
+	if start != nil && !reused {
 		for _, d := range sol.StartUnused {
 			if _, ok := unfit[d]; !ok {
 				unfit[d] = "it does not fit this plan's rules or prices (a span its medium may not use, a duct with no room, or new trench not allowed)"

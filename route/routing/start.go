@@ -18,6 +18,11 @@ type Start struct {
 	// Legs are the earlier plan's feasible legs; at most one primary and one diverse leg per
 	// link (a later one of the same link and leg is ignored).
 	Legs []StartLeg
+	// ProblemSHA256 is the routes file's problem_sha256 (Routed.ProblemSHA256): the routing
+	// problem whose plan from scratch these routes are; "" when unknown. A plan of that very
+	// problem started from them is that plan (SolveFrom), not a search from it: identical
+	// problems give identical plans, whichever was planned first.
+	ProblemSHA256 string
 }
 
 // StartLeg is one leg of a Start, as routes.geojson writes it.

@@ -73,7 +73,7 @@ func TestStartRoutesRebuildsSolution(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			sol, err := solve(context.Background(), tc.s, lay, prob, optimize.Settings{})
+			sol, _, _, err := solve(context.Background(), tc.s, lay, prob, optimize.Settings{}, "")
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -152,4 +152,74 @@ func generatedSite(t *testing.T, n int) (*site.Site, *plan.Plan) {
 		t.Fatal(err)
 	}
 	return s, p
+}
+
+// TestStartSameProblem: a start that came from a plan of this very routing problem solved
+// from scratch (its Start.ProblemSHA256 is the problem's) is not searched from: the answer is
+// that plan, taken from the site's solutions without a solve, whatever the start's routes say
+// (here every leg broken), and it carries the problem's fingerprint again; a start of another
+// problem is searched from, and its plan carries none. Identical problems give identical
+// plans, whichever scenario of a sweep was the base. The project's own rule: no outside source.
+func TestStartSameProblem(t *testing.T) {
+	t.Parallel()
+	s, p := generatedSite(t, 60)
+	eng, err := plan.Engine(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	m, err := NewModel(eng, p.Design)
+	if err != nil {
+		t.Fatal(err)
+	}
+	hub, _ := s.Hub(p)
+	links, _, errs := s.Links(p, hub)
+	if len(errs) > 0 {
+		t.Fatal(errs)
+	}
+	ctx := context.Background()
+	cold, err := Solve(ctx, s, m, links)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(cold.ProblemSHA256) != 64 || cold.StartSame {
+		t.Fatalf("a plan from scratch: fingerprint %q, StartSame %v; want a SHA-256 and false", cold.ProblemSHA256, cold.StartSame)
+	}
+	solved := s.Solved.Len()
+	st := &Start{From: "base", ProblemSHA256: cold.ProblemSHA256}
+	for _, l := range links {
+		st.Legs = append(st.Legs, StartLeg{Link: l.ID, Leg: LegPrimary, Medium: "no such medium", Spans: []string{"no such span"}})
+	}
+	same, err := SolveFrom(ctx, s, m, links, st)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !same.StartSame || same.ProblemSHA256 != cold.ProblemSHA256 || same.StartUnused != nil || s.Solved.Len() != solved {
+		t.Errorf("same problem: StartSame %v, fingerprint %q, unused %d, %d solutions kept (want %d: no solve)",
+			same.StartSame, same.ProblemSHA256, len(same.StartUnused), s.Solved.Len(), solved)
+	}
+	if same.ObjectiveCents != cold.ObjectiveCents || fmt.Sprint(same.Opened) != fmt.Sprint(cold.Opened) || fmt.Sprint(legSpans(same)) != fmt.Sprint(legSpans(cold)) {
+		t.Errorf("same problem: %d cents, opened %v; want the plan from scratch, %d cents, opened %v", same.ObjectiveCents, same.Opened, cold.ObjectiveCents, cold.Opened)
+	}
+	st.ProblemSHA256 = strings.Repeat("0", 64) // another problem's plan
+	other, err := SolveFrom(ctx, s, m, links, st)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if other.StartSame || other.ProblemSHA256 != "" || len(other.StartUnused) != len(links) {
+		t.Errorf("another problem's start: StartSame %v, fingerprint %q, %d of %d links unused; want it searched from (every link placed afresh)",
+			other.StartSame, other.ProblemSHA256, len(other.StartUnused), len(links))
+	}
+}
+
+// legSpans lists every leg's spans, in leg order.
+func legSpans(r *Routed) [][]string {
+	var out [][]string
+	for _, l := range r.Legs {
+		var ids []string
+		for _, st := range l.Steps {
+			ids = append(ids, st.SpanID)
+		}
+		out = append(out, ids)
+	}
+	return out
 }
