@@ -1,6 +1,7 @@
 package media
 
 import (
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"slices"
@@ -28,6 +29,77 @@ func TestTenGigSROnOM3At150m(t *testing.T) {
 	// ANSI/TIA-568.3-D Tier 1 acceptance: 0.525 + 2 x 0.75 + 2 x 0.3 = 2.625 dB.
 	if math.Abs(w.FieldLimitDB-2.625) > 0.001 || w.Pairs != 2 || w.Splices != 2 {
 		t.Errorf("field limit %.3f dB over %d pairs and %d splices, want 2.625 over 2 and 2", w.FieldLimitDB, w.Pairs, w.Splices)
+	}
+}
+
+// TestMarginFloor: the catalog's margin policy is the default, and a plan's loss_margin_db is
+// a floor over every fibre class. Channels measured on the demo campus and the starter, design
+// losses 3.5 dB/km (ANSI/TIA-568.3-D maximum at 850 nm, from memory) x length + 2 pairs x
+// 0.5 dB (trade association guide, seen) + 2 pigtail splices x 0.3 dB; limits IEEE 802.3
+// Clause 52, 10GBASE-SR: OM4 400 m and 2.9 dB (seen), OM3 300 m (seen) and 2.6 dB (from memory).
+func TestMarginFloor(t *testing.T) {
+	t.Parallel()
+	only := func(id string) *Catalog {
+		c := DefaultCatalog()
+		c.Media = slices.DeleteFunc(c.Media, func(m *Medium) bool { return m.ID != id })
+		return c
+	}
+	cases := []struct {
+		name     string
+		medium   string
+		rateGbps float64
+		channelM float64
+		floorDB  float64
+		feasible bool
+		lossDB   float64 // at the operating wavelength, to the 0.01 dB the outputs print
+		marginDB float64
+		required float64
+		reason   string // in the rejection, when infeasible
+	}{
+		// The starter's HALL-LAB: 0.129 km x 3.5 + 1.6 = 2.05 dB, 0.85 dB under IEEE's 2.9.
+		{"om4 129 m, policy", "om4", 10, 129, 0, true, 2.05, 0.85, 0, ""},
+		{"om4 129 m, floor 1 dB", "om4", 10, 129, 1, false, 2.05, 0.85, 1, "margin 0.85 dB is below the required 1 dB"},
+		// The demo's TWR-MTH: 371.42 m, 2.90 dB against 2.9 dB, within IEEE's 400 m.
+		{"om4 371.42 m, policy", "om4", 10, 371.42, 0, true, 2.9, 0, 0, ""},
+		// The demo's TWR-EST: 381.45 m is within IEEE's 400 m, but two spliced pigtails plan
+		// 0.1 dB more than IEEE's 1.5 dB allowance: 2.94 dB against 2.9.
+		{"om4 381.45 m, policy", "om4", 10, 381.45, 0, false, 2.94, -0.04, 0, "margin -0.04 dB is below the required 0 dB"},
+		// The demo's ADM-HUM: 276.08 m on OM3, within its 300 m: 2.57 dB against 2.6, which
+		// closes with 0.03 dB to spare (IEEE's own model, 0.966 + 1.5 = 2.47 dB, closes too).
+		{"om3 276.08 m, policy", "om3", 10, 276.08, 0, true, 2.57, 0.03, 0, ""},
+		// The demo's ENG-CHM: 296.19 m on OM3, within its 300 m, 2.64 dB against 2.6.
+		{"om3 296.19 m, policy", "om3", 10, 296.19, 0, false, 2.64, -0.04, 0, "margin -0.04 dB is below the required 0 dB"},
+		// Single-mode outside plant, IEEE 802.3 Clause 52 10GBASE-LR 10 km, 6.2 dB (from memory);
+		// 0.5 dB/km (ANSI/TIA-568.3-D outside plant, from memory): 1 km x 0.5 + 1.6 = 2.1 dB.
+		// The policy keeps 0.5 dB and one repair splice for the km (common practice, no
+		// published source): 0.5 + 0.3 = 0.8 dB; a floor below that changes nothing.
+		{"os2 1 km outdoors, policy", "os2", 10, 1000, 0, true, 2.1, 4.1, 0.8, ""},
+		{"os2 1 km outdoors, floor 0.5 dB", "os2", 10, 1000, 0.5, true, 2.1, 4.1, 0.8, ""},
+		{"os2 1 km outdoors, floor 1 dB", "os2", 10, 1000, 1, true, 2.1, 4.1, 1, ""},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			t.Parallel()
+			e := newEngine(t, only(tc.medium), nil, EngineOptions{LossMarginDB: tc.floorDB})
+			ch := e.Choose(Link{ID: "L", RouteM: tc.channelM, RateGbps: tc.rateGbps, Outdoor: true, ConnectorPairs: 2, Strands: 2})
+			if ch.Feasible != tc.feasible {
+				t.Fatalf("%s: feasible %v, want %v: %s", tc.name, ch.Feasible, tc.feasible, ch.Reason)
+			}
+			if !tc.feasible {
+				if len(ch.Rejected) != 1 || !strings.Contains(ch.Rejected[0].Reason, tc.reason) {
+					t.Errorf("%s: rejections %v, want one saying %q", tc.name, ch.Rejected, tc.reason)
+				}
+				if !strings.Contains(ch.Reason, fmt.Sprintf("loses %s dB", formatNum(tc.lossDB))) {
+					t.Errorf("%s: reason %q does not give the loss %.2f dB", tc.name, ch.Reason, tc.lossDB)
+				}
+				return
+			}
+			w, _ := worstLoss(ch.Losses)
+			if math.Abs(w.LossDB-tc.lossDB) > 0.005 || math.Abs(w.MarginDB-tc.marginDB) > 0.005 || math.Abs(w.RequiredMarginDB-tc.required) > 1e-9 {
+				t.Errorf("%s: loss %.2f dB, margin %.2f dB, required %.2f dB; want %.2f, %.2f, %.2f",
+					tc.name, w.LossDB, w.MarginDB, w.RequiredMarginDB, tc.lossDB, tc.marginDB, tc.required)
+			}
+		})
 	}
 }
 

@@ -105,7 +105,7 @@ type LinkSpec struct {
 
 // Design holds the plan's design switches; lengths are metres, losses dB.
 type Design struct {
-	LossMarginDB       float64 `yaml:"loss_margin_db"`
+	LossMarginDB       float64 `yaml:"loss_margin_db"` // a floor on every fibre link's margin, multimode included; 0: the catalog's margin policy alone
 	AllowNewTrench     bool    `yaml:"allow_new_trench"`
 	AllowOutdoorCopper bool    `yaml:"allow_outdoor_copper"`
 	MaxLateralM        float64 `yaml:"max_lateral_m"`
