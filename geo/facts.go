@@ -3,6 +3,7 @@ package geo
 import (
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 	"strconv"
 
@@ -225,6 +226,90 @@ func (b *builder) facts(n *Network) {
 	}
 	b.transit(n)
 	b.dangling(n)
+	b.throughFootprints()
+}
+
+// throughFootprints warns about every proposed pathway of outside work (not a tray, not
+// aerial) that runs inside a building's footprint for more than SnapM, past the stretch
+// from an end inside the footprint back to its wall: a service duct drawn through the wall to
+// the telecom room enters once and is not warned of; a trench drawn across a building, or
+// into it and out again to an entrance, is, with the metres inside (projected). The plan
+// still prices those metres as new work: only the campus's author can say where it goes.
+func (b *builder) throughFootprints() {
+	partsOf := make([][]int, len(b.c.Pathways))
+	for q, p := range b.parts {
+		partsOf[p.pw] = append(partsOf[p.pw], q)
+	}
+	for bi, bl := range b.c.Buildings {
+		f := &b.feet[bi]
+		if f.empty() {
+			continue
+		}
+		b.buf = b.segGrid.query(f.lo, f.hi, b.buf)
+		var pws []int
+		for _, s := range b.buf {
+			pws = append(pws, b.parts[b.segs[s].part].pw)
+		}
+		slices.Sort(pws)
+		for _, pw := range slices.Compact(pws) {
+			p := &b.c.Pathways[pw]
+			if p.Status != StatusProposed || p.Type == TypeTray || p.Type == TypeAerial {
+				continue
+			}
+			var inM float64
+			for _, q := range partsOf[pw] {
+				inM += f.passedM(&b.parts[q])
+			}
+			if inM > b.snap {
+				b.warns = append(b.warns, warnRec{p.Source, p.ID, fmt.Sprintf(
+					"proposed pathway %q runs %.1f m inside the footprint of building %q, not only to its wall: new work there is priced as if dug outside; draw it around the building, or to the wall where it enters",
+					p.ID, inM, bl.ID)})
+			}
+		}
+	}
+}
+
+// passedM is the projected length of part p inside footprint f, less the stretches from an
+// end of p inside f back to where p crosses into f (the way in to a room).
+func (f *footprint) passedM(p *part) float64 {
+	type span struct{ from, to float64 }
+	var in []span
+	for i := 1; i < len(p.xy); i++ {
+		a, c := p.xy[i-1], p.xy[i]
+		if f.insideLen(a, c) == 0 {
+			continue
+		}
+		ts := []float64{0, 1}
+		for _, poly := range f.rings {
+			for _, ring := range poly {
+				for k := 1; k < len(ring); k++ {
+					if t, _, ok := segIntersect(a, c, ring[k-1], ring[k]); ok {
+						ts = append(ts, t)
+					}
+				}
+			}
+		}
+		sort.Float64s(ts)
+		for k := 1; k < len(ts); k++ {
+			if ts[k] > ts[k-1] && f.contains(lerp(a, c, (ts[k-1]+ts[k])/2)) {
+				from, to := p.along(i-1, ts[k-1]), p.along(i-1, ts[k])
+				if n := len(in); n > 0 && from-in[n-1].to <= 1e-9 {
+					in[n-1].to = to // one stretch inside across a vertex
+					continue
+				}
+				in = append(in, span{from, to})
+			}
+		}
+	}
+	total := p.cum[len(p.cum)-1]
+	var m float64
+	for k, s := range in {
+		if (k == 0 && s.from <= 1e-9 && f.contains(p.xy[0])) || (k == len(in)-1 && s.to >= total-1e-9 && f.contains(p.xy[len(p.xy)-1])) {
+			continue
+		}
+		m += s.to - s.from
+	}
+	return m
 }
 
 // transit finds, for every building, the pathways drawn inside it: both ends of every line in
