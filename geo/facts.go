@@ -224,9 +224,36 @@ func (b *builder) facts(n *Network) {
 			}
 		}
 	}
+	built(n, at)
 	b.transit(n)
 	b.dangling(n)
 	b.throughFootprints()
+}
+
+// built marks the entries that are there already (Entry.Built), from what meets at their
+// junctions; at maps a junction ID to its index in n.Meetings.
+func built(n *Network, at map[string]int) {
+	span := make(map[string]*Span, len(n.Spans))
+	for i := range n.Spans {
+		span[n.Spans[i].ID] = &n.Spans[i]
+	}
+	for i := range n.Entrances {
+		e := &n.Entrances[i]
+		if e.LateralM > 0 {
+			continue
+		}
+		existing, proposed := false, false
+		for _, id := range n.Meetings[at[e.Junction]].Spans {
+			switch sp := span[id]; {
+			case sp.Type == TypeTray:
+			case sp.Status == StatusProposed:
+				proposed = true
+			default:
+				existing = true
+			}
+		}
+		e.Built = existing && !proposed
+	}
 }
 
 // throughFootprints warns about every proposed pathway of outside work (not a tray, not

@@ -966,14 +966,20 @@ func (r *run) quantities() {
 		}
 		e.Quantities = append(e.Quantities, one(items.RunHandholes(len(con.RunHandholes)), on))
 	}
-	if p.Has(media.PriceEntrance) && len(con.Entrances) > 0 {
+	// The entries, new or there already (items.Entrance), one line of each.
+	for _, built := range []bool{false, true} {
 		var at []string
+		var q []media.Quantity
 		for _, en := range con.Entrances {
-			at = append(at, fromEntrance(en))
+			if en.Built == built {
+				at = append(at, fromEntrance(en))
+				q = items.Entrance(p, design, 0, built)
+			}
 		}
-		q := items.Entrance(p, design, 0)[0]
-		q.Amount = float64(len(con.Entrances))
-		e.Quantities = append(e.Quantities, one(q, at))
+		if len(q) > 0 {
+			q[0].Amount = float64(len(at))
+			e.Quantities = append(e.Quantities, one(q[0], at))
+		}
 	}
 	// The added pull points come from the pulls of the legs that need them.
 	var pulled []string

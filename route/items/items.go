@@ -170,14 +170,24 @@ func RunHandholes(n int) media.Quantity {
 		Unit: media.UnitEach, Amount: float64(n), Price: media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole}}
 }
 
-// Entrance is what a building entrance a plan uses takes: its entry (wall penetration, sleeve
-// or entrance conduit, firestop) when the book prices building_entrance_each, and, when the
-// campus reaches it by a counted lateral of lateralM metres (no pathway drawn), that lateral
-// built as new construction is: trench or bore, restoration of turf, the design's ducts.
-// Cables in the lateral are pulled in duct (LegEnds).
-func Entrance(p *media.PriceBook, d plan.Design, lateralM float64) []media.Quantity {
+// Entrance is what a building entrance a plan uses takes: its entry, and, when the campus
+// reaches it by a counted lateral of lateralM metres (no pathway drawn), that lateral built as
+// new construction is: trench or bore, restoration of the design's assumed surface, the
+// design's ducts. Cables in the lateral are pulled in duct (LegEnds).
+//
+// The entry is the one decision of what a wall costs (README, "Building entry"): a new one
+// (wall penetration, sleeve or entrance conduit, firestop) at building_entrance_each; one that
+// is there already (geo.Entry.Built: an existing pathway meets the wall, no proposed one)
+// needs only the cables firestopped through its sleeve, at entrance_firestop_each, or at
+// building_entrance_each when the book has no such price (the dearer, rather than nothing).
+// A book with neither prices no entry.
+func Entrance(p *media.PriceBook, d plan.Design, lateralM float64, built bool) []media.Quantity {
 	var q []media.Quantity
-	if p.Has(media.PriceEntrance) {
+	switch {
+	case built && p.Has(media.PriceFirestop):
+		q = append(q, media.Quantity{Category: media.CategoryConstruction, Item: "building entrance already there: firestop through its sleeve",
+			Unit: media.UnitEach, Amount: 1, Price: media.PriceKey{Item: media.PriceFirestop}})
+	case p.Has(media.PriceEntrance):
 		q = append(q, media.Quantity{Category: media.CategoryConstruction, Item: "building entrance: penetration, sleeve, firestop",
 			Unit: media.UnitEach, Amount: 1, Price: media.PriceKey{Item: media.PriceEntrance}})
 	}

@@ -516,7 +516,7 @@ func (m *Model) bidItems(bases media.BidBases) []media.Quantity {
 // work along the lateral.
 func (m *Model) entranceCents(building string, e geo.Entry) (int64, error) {
 	lateralM := e.LateralM
-	work := items.Entrance(m.prices, m.design, lateralM)
+	work := items.Entrance(m.prices, m.design, lateralM, e.Built)
 	if err := m.prices.Check(items.KeysOf(work)); err != nil {
 		if lateralM > 0 {
 			return 0, fmt.Errorf("building %s, entrance %s: its counted lateral of %.1f m is built as new construction: %w", building, e.ID, lateralM, err)
