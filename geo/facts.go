@@ -6,6 +6,7 @@ import (
 	"slices"
 	"sort"
 	"strconv"
+	"strings"
 
 	"github.com/paulmach/orb"
 )
@@ -227,15 +228,14 @@ func (b *builder) facts(n *Network) {
 	built(n, at)
 	b.transit(n)
 	b.dangling(n)
-	b.throughFootprints()
 }
 
 // built marks the entries that are there already (Entry.Built), from what meets at their
 // junctions; at maps a junction ID to its index in n.Meetings.
 func built(n *Network, at map[string]int) {
-	span := make(map[string]*Span, len(n.Spans))
-	for i := range n.Spans {
-		span[n.Spans[i].ID] = &n.Spans[i]
+	span := func(id string) *Span { // n.Spans is sorted by ID
+		i, _ := slices.BinarySearchFunc(n.Spans, id, func(s Span, id string) int { return strings.Compare(s.ID, id) })
+		return &n.Spans[i]
 	}
 	for i := range n.Entrances {
 		e := &n.Entrances[i]
@@ -244,7 +244,7 @@ func built(n *Network, at map[string]int) {
 		}
 		existing, proposed := false, false
 		for _, id := range n.Meetings[at[e.Junction]].Spans {
-			switch sp := span[id]; {
+			switch sp := span(id); {
 			case sp.Type == TypeTray:
 			case sp.Status == StatusProposed:
 				proposed = true
@@ -256,42 +256,31 @@ func built(n *Network, at map[string]int) {
 	}
 }
 
-// throughFootprints warns about every proposed pathway of outside work (not a tray, not
-// aerial) that runs inside a building's footprint for more than SnapM, past the stretch
-// from an end inside the footprint back to its wall: a service duct drawn through the wall to
+// through warns about every proposed pathway of outside work (not a tray, not aerial) among
+// pws (the pathways with a segment near footprint f of building id; partsOf gives each
+// pathway's first and past-last part) that runs inside f for more than SnapM, past the
+// stretch from an end inside f back to its wall: a service duct drawn through the wall to
 // the telecom room enters once and is not warned of; a trench drawn across a building, or
 // into it and out again to an entrance, is, with the metres inside (projected). The plan
 // still prices those metres as new work: only the campus's author can say where it goes.
-func (b *builder) throughFootprints() {
-	partsOf := make([][]int, len(b.c.Pathways))
-	for q, p := range b.parts {
-		partsOf[p.pw] = append(partsOf[p.pw], q)
+func (b *builder) through(id string, f *footprint, pws []int, partsOf [][2]int) {
+	b.pws = b.pws[:0]
+	for _, pw := range pws {
+		if p := &b.c.Pathways[pw]; p.Status == StatusProposed && p.Type != TypeTray && p.Type != TypeAerial {
+			b.pws = append(b.pws, pw)
+		}
 	}
-	for bi, bl := range b.c.Buildings {
-		f := &b.feet[bi]
-		if f.empty() {
-			continue
+	slices.Sort(b.pws)
+	for _, pw := range slices.Compact(b.pws) {
+		p := &b.c.Pathways[pw]
+		var inM float64
+		for q := partsOf[pw][0]; q < partsOf[pw][1]; q++ {
+			inM += f.passedM(&b.parts[q])
 		}
-		b.buf = b.segGrid.query(f.lo, f.hi, b.buf)
-		var pws []int
-		for _, s := range b.buf {
-			pws = append(pws, b.parts[b.segs[s].part].pw)
-		}
-		slices.Sort(pws)
-		for _, pw := range slices.Compact(pws) {
-			p := &b.c.Pathways[pw]
-			if p.Status != StatusProposed || p.Type == TypeTray || p.Type == TypeAerial {
-				continue
-			}
-			var inM float64
-			for _, q := range partsOf[pw] {
-				inM += f.passedM(&b.parts[q])
-			}
-			if inM > b.snap {
-				b.warns = append(b.warns, warnRec{p.Source, p.ID, fmt.Sprintf(
-					"proposed pathway %q runs %.1f m inside the footprint of building %q, not only to its wall: new work there is priced as if dug outside; draw it around the building, or to the wall where it enters",
-					p.ID, inM, bl.ID)})
-			}
+		if inM > b.snap {
+			b.warns = append(b.warns, warnRec{p.Source, p.ID, fmt.Sprintf(
+				"proposed pathway %q runs %.1f m inside the footprint of building %q, not only to its wall: new work there is priced as if dug outside; draw it around the building, or to the wall where it enters",
+				p.ID, inM, id)})
 		}
 	}
 }
@@ -300,13 +289,15 @@ func (b *builder) throughFootprints() {
 // end of p inside f back to where p crosses into f (the way in to a room).
 func (f *footprint) passedM(p *part) float64 {
 	type span struct{ from, to float64 }
-	var in []span
+	var inArr [4]span
+	var tsArr [8]float64
+	in := inArr[:0]
 	for i := 1; i < len(p.xy); i++ {
 		a, c := p.xy[i-1], p.xy[i]
-		if f.insideLen(a, c) == 0 {
+		if math.Max(a.x, c.x) < f.lo.x || math.Min(a.x, c.x) > f.hi.x || math.Max(a.y, c.y) < f.lo.y || math.Min(a.y, c.y) > f.hi.y {
 			continue
 		}
-		ts := []float64{0, 1}
+		ts := append(tsArr[:0], 0, 1)
 		for _, poly := range f.rings {
 			for _, ring := range poly {
 				for k := 1; k < len(ring); k++ {
@@ -371,6 +362,7 @@ func (b *builder) transit(n *Network) {
 					t.Interior = append(t.Interior, b.c.Pathways[pw].ID)
 				}
 			}
+			b.through(bl.ID, f, pws, partsOf)
 		}
 		sort.Strings(t.Interior)
 		t.Allowed = t.Marked || len(t.Interior) > 0
