@@ -216,6 +216,7 @@ type builder struct {
 	parts   []part
 	segs    []segRef
 	segGrid *grid
+	pws     []int // scratch: pathway indices (through)
 	vtxGrid *grid
 	mem     []member
 	parent  []int

@@ -3,8 +3,10 @@ package geo
 import (
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 	"strconv"
+	"strings"
 
 	"github.com/paulmach/orb"
 )
@@ -223,8 +225,109 @@ func (b *builder) facts(n *Network) {
 			}
 		}
 	}
+	built(n, at)
 	b.transit(n)
 	b.dangling(n)
+}
+
+// built marks the entries that are there already (Entry.Built), from what meets at their
+// junctions; at maps a junction ID to its index in n.Meetings.
+func built(n *Network, at map[string]int) {
+	span := func(id string) *Span { // n.Spans is sorted by ID
+		i, _ := slices.BinarySearchFunc(n.Spans, id, func(s Span, id string) int { return strings.Compare(s.ID, id) })
+		return &n.Spans[i]
+	}
+	for i := range n.Entrances {
+		e := &n.Entrances[i]
+		if e.LateralM > 0 {
+			continue
+		}
+		existing, proposed := false, false
+		for _, id := range n.Meetings[at[e.Junction]].Spans {
+			switch sp := span(id); {
+			case sp.Type == TypeTray:
+			case sp.Status == StatusProposed:
+				proposed = true
+			default:
+				existing = true
+			}
+		}
+		e.Built = existing && !proposed
+	}
+}
+
+// through warns about every proposed pathway of outside work (not a tray, not aerial) among
+// pws (the pathways with a segment near footprint f of building id; partsOf gives each
+// pathway's first and past-last part) that runs inside f for more than SnapM, past the
+// stretch from an end inside f back to its wall: a service duct drawn through the wall to
+// the telecom room enters once and is not warned of; a trench drawn across a building, or
+// into it and out again to an entrance, is, with the metres inside (projected). The plan
+// still prices those metres as new work: only the campus's author can say where it goes.
+func (b *builder) through(id string, f *footprint, pws []int, partsOf [][2]int) {
+	b.pws = b.pws[:0]
+	for _, pw := range pws {
+		if p := &b.c.Pathways[pw]; p.Status == StatusProposed && p.Type != TypeTray && p.Type != TypeAerial {
+			b.pws = append(b.pws, pw)
+		}
+	}
+	slices.Sort(b.pws)
+	for _, pw := range slices.Compact(b.pws) {
+		p := &b.c.Pathways[pw]
+		var inM float64
+		for q := partsOf[pw][0]; q < partsOf[pw][1]; q++ {
+			inM += f.passedM(&b.parts[q])
+		}
+		if inM > b.snap {
+			b.warns = append(b.warns, warnRec{p.Source, p.ID, fmt.Sprintf(
+				"proposed pathway %q runs %.1f m inside the footprint of building %q, not only to its wall: new work there is priced as if dug outside; draw it around the building, or to the wall where it enters",
+				p.ID, inM, id)})
+		}
+	}
+}
+
+// passedM is the projected length of part p inside footprint f, less the stretches from an
+// end of p inside f back to where p crosses into f (the way in to a room).
+func (f *footprint) passedM(p *part) float64 {
+	type span struct{ from, to float64 }
+	var inArr [4]span
+	var tsArr [8]float64
+	in := inArr[:0]
+	for i := 1; i < len(p.xy); i++ {
+		a, c := p.xy[i-1], p.xy[i]
+		if math.Max(a.x, c.x) < f.lo.x || math.Min(a.x, c.x) > f.hi.x || math.Max(a.y, c.y) < f.lo.y || math.Min(a.y, c.y) > f.hi.y {
+			continue
+		}
+		ts := append(tsArr[:0], 0, 1)
+		for _, poly := range f.rings {
+			for _, ring := range poly {
+				for k := 1; k < len(ring); k++ {
+					if t, _, ok := segIntersect(a, c, ring[k-1], ring[k]); ok {
+						ts = append(ts, t)
+					}
+				}
+			}
+		}
+		sort.Float64s(ts)
+		for k := 1; k < len(ts); k++ {
+			if ts[k] > ts[k-1] && f.contains(lerp(a, c, (ts[k-1]+ts[k])/2)) {
+				from, to := p.along(i-1, ts[k-1]), p.along(i-1, ts[k])
+				if n := len(in); n > 0 && from-in[n-1].to <= 1e-9 {
+					in[n-1].to = to // one stretch inside across a vertex
+					continue
+				}
+				in = append(in, span{from, to})
+			}
+		}
+	}
+	total := p.cum[len(p.cum)-1]
+	var m float64
+	for k, s := range in {
+		if (k == 0 && s.from <= 1e-9 && f.contains(p.xy[0])) || (k == len(in)-1 && s.to >= total-1e-9 && f.contains(p.xy[len(p.xy)-1])) {
+			continue
+		}
+		m += s.to - s.from
+	}
+	return m
 }
 
 // transit finds, for every building, the pathways drawn inside it: both ends of every line in
@@ -259,6 +362,7 @@ func (b *builder) transit(n *Network) {
 					t.Interior = append(t.Interior, b.c.Pathways[pw].ID)
 				}
 			}
+			b.through(bl.ID, f, pws, partsOf)
 		}
 		sort.Strings(t.Interior)
 		t.Allowed = t.Marked || len(t.Interior) > 0
