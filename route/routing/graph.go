@@ -382,11 +382,85 @@ func inBuilding(net *geo.Network, j, b string) bool {
 // published source).
 const straightOnDeg = 30
 
-// runsAt groups the spans ending at junction j into runs of duct through it: spans of one
-// pathway, or carrying on from each other within straightOnDeg. Runs and the spans in each are
-// in span order.
+// sameDucts reports whether spans a and b carry the same ducts, as far as the campus says:
+// the same pathway type and status, the same spare ducts and duct size, and no two different
+// shared-risk groups given (a group left out is the pathway's own id, which says nothing).
+// Two such pathways meeting end to end are one duct drawn in two features, as a facilities
+// GIS splits a pathway where another joins it (common practice, no published source).
+func sameDucts(a, b *geo.Span) bool {
+	given := func(s *geo.Span) bool { return s.Group != s.PathwayID }
+	return a.Type == b.Type && a.Status == b.Status && a.SpareDucts == b.SpareDucts && a.DuctMM == b.DuctMM &&
+		(a.Group == b.Group || !given(a) || !given(b))
+}
+
+// runsAt groups the spans ending at junction j into runs of duct through it, joining two
+// spans when
+//
+//   - they are pieces of one pathway drawn through j;
+//   - one carries on from the other within straightOnDeg (a duct bank drawn as several
+//     pathways);
+//   - they carry the same ducts (sameDucts) and are each other's one way on, the turn between
+//     them (a bend of the duct) the least at j for both by at least straightOnDeg and neither
+//     carried on straight (within straightOnDeg) by another span of its type and status nor
+//     by a piece of its own pathway: one duct drawn as two features that meet at its bend,
+//     where another pathway joins. A third span that carries on straight from one of them, of
+//     another kind (new trench from an existing duct), is a run of its own, joined by the
+//     second rule.
+//
+// The decision rests on the geometry and the spans' properties, never on their ids beyond
+// "the same pathway", so splitting a pathway into two features where another joins it changes
+// no run. Runs and the spans in each are in span order.
 func runsAt(net *geo.Network, j string, spans []int) [][]int {
-	rep := make([]int, len(spans))
+	n := len(spans)
+	turn := make([][]float64, n) // turn[a][b]: the deflection from span a into span b at j
+	for a := range spans {
+		turn[a] = make([]float64, n)
+		for b := range spans {
+			if a != b {
+				sa, sb := &net.Spans[spans[a]], &net.Spans[spans[b]]
+				in := geo.Step{SpanID: sa.ID, Reverse: sa.From == j}
+				out := geo.Step{SpanID: sb.ID, Reverse: sb.To == j}
+				turn[a][b] = net.TurnDeg(in, out)
+			}
+		}
+	}
+	span := func(a int) *geo.Span { return &net.Spans[spans[a]] }
+	carriedOn := make([]bool, n) // by a piece of its own pathway, or straight by its own kind
+	for a := range spans {
+		for b := range spans {
+			sa, sb := span(a), span(b)
+			if a != b && (sa.PathwayID == sb.PathwayID || (turn[a][b] <= straightOnDeg && sa.Type == sb.Type && sa.Status == sb.Status)) {
+				carriedOn[a] = true
+			}
+		}
+	}
+	// bend[a] is the span a's duct bends into at j, or -1.
+	bend := make([]int, n)
+	for a := range spans {
+		bend[a] = -1
+		if carriedOn[a] {
+			continue
+		}
+		best, next := -1, math.Inf(1)
+		for b := range spans {
+			if b == a || carriedOn[b] || !sameDucts(span(a), span(b)) {
+				continue
+			}
+			switch d := turn[a][b]; {
+			case best < 0 || d < turn[a][best]:
+				if best >= 0 {
+					next = turn[a][best]
+				}
+				best = b
+			case d < next:
+				next = d
+			}
+		}
+		if best >= 0 && next-turn[a][best] >= straightOnDeg {
+			bend[a] = best
+		}
+	}
+	rep := make([]int, n)
 	for i := range rep {
 		rep[i] = i
 	}
@@ -397,11 +471,8 @@ func runsAt(net *geo.Network, j string, spans []int) [][]int {
 		return x
 	}
 	for a := range spans {
-		for b := a + 1; b < len(spans); b++ {
-			sa, sb := &net.Spans[spans[a]], &net.Spans[spans[b]]
-			in := geo.Step{SpanID: sa.ID, Reverse: sa.From == j}
-			out := geo.Step{SpanID: sb.ID, Reverse: sb.To == j}
-			if sa.PathwayID == sb.PathwayID || net.TurnDeg(in, out) <= straightOnDeg {
+		for b := a + 1; b < n; b++ {
+			if span(a).PathwayID == span(b).PathwayID || turn[a][b] <= straightOnDeg || (bend[a] == b && bend[b] == a) {
 				if x, y := find(a), find(b); x != y {
 					rep[max(x, y)] = min(x, y)
 				}
