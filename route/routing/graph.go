@@ -32,10 +32,12 @@ import (
 //     the building's node by its own entrance edge, the edges of one entrance sharing a
 //     shared-risk group (so two legs of a diverse link do not use one entrance twice).
 //   - A junction where three or more spans of different pathways meet with no structure and no
-//     building is split into one node per run of duct through it (the pieces of one pathway,
-//     and spans that carry on within straightOnDeg of a straight line: one duct bank drawn as
-//     several pathways) joined by turn edges of no length: a route that turns there from one
-//     run into another takes a turn edge (geo.PassNeedsStructure).
+//     building is split into one node per run of duct through it (runsAt: the pieces of one
+//     pathway, spans that carry on within straightOnDeg of a straight line, as one duct bank
+//     drawn as several pathways, and two pathways of the same ducts that meet at a bend of the
+//     duct, as a facilities GIS splits one where another joins it) joined by turn edges of no
+//     length: a route that turns there from one run into another takes a turn edge
+//     (geo.PassNeedsStructure).
 //   - A handhole at a junction without a structure — where the route turns (a turn edge), or
 //     where new pathway joins the network (an opened proposed span ends, site.JoinsNetwork) —
 //     is one charge (optimize.Charge) over those edges, paid once however many routes use it:
