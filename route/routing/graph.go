@@ -32,7 +32,7 @@ import (
 //     the building's node by its own entrance edge, the edges of one entrance sharing a
 //     shared-risk group (so two legs of a diverse link do not use one entrance twice).
 //   - A junction where three or more spans of different pathways meet with no structure and no
-//     building is split into one node per run of duct through it (runsAt: the pieces of one
+//     building is split into one node per run of duct through it (geo.Network.RunsAt: the pieces of one
 //     pathway, spans that carry on within straightOnDeg of a straight line, as one duct bank
 //     drawn as several pathways, and two pathways of the same ducts that meet at a bend of the
 //     duct, as a facilities GIS splits one where another joins it) joined by turn edges of no
@@ -232,7 +232,7 @@ func newLayout(s *site.Site) *layout {
 				l.setEnd(net, i, jn.ID, n)
 			}
 		case turnAt[j]:
-			for _, run := range runsAt(net, jn.ID, spansAt[j]) {
+			for _, run := range net.RunsAt(jn.ID, spansAt[j]) {
 				name, bearing := net.Spans[run[0]].PathwayID, bearingAt(net, run[0], jn.ID)
 				for _, i := range run[1:] {
 					name, bearing = min(name, net.Spans[i].PathwayID), min(bearing, bearingAt(net, i, jn.ID))
@@ -376,124 +376,6 @@ func (l *layout) setEnd(net *geo.Network, i int, j string, n int) {
 func inBuilding(net *geo.Network, j, b string) bool {
 	m, ok := net.MeetingAt(j)
 	return ok && slices.Contains(m.Buildings, b)
-}
-
-// straightOnDeg is the largest deflection, in degrees, at which a cable passing a junction
-// from one span into another is carried on in the same duct run rather than turned: a duct
-// bank drawn as several pathways meets itself end to end at small angles (common practice, no
-// published source).
-const straightOnDeg = 30
-
-// sameDucts reports whether spans a and b carry the same ducts, as far as the campus says:
-// the same pathway type and status, the same spare ducts and duct size, and no two different
-// shared-risk groups given (a group left out is the pathway's own id, which says nothing).
-// Two such pathways meeting end to end are one duct drawn in two features, as a facilities
-// GIS splits a pathway where another joins it (common practice, no published source).
-func sameDucts(a, b *geo.Span) bool {
-	given := func(s *geo.Span) bool { return s.Group != s.PathwayID }
-	return a.Type == b.Type && a.Status == b.Status && a.SpareDucts == b.SpareDucts && a.DuctMM == b.DuctMM &&
-		(a.Group == b.Group || !given(a) || !given(b))
-}
-
-// runsAt groups the spans ending at junction j into runs of duct through it, joining two
-// spans when
-//
-//   - they are pieces of one pathway drawn through j;
-//   - one carries on from the other within straightOnDeg (a duct bank drawn as several
-//     pathways);
-//   - they carry the same ducts (sameDucts) and are each other's one way on, the turn between
-//     them (a bend of the duct) the least at j for both by at least straightOnDeg and neither
-//     carried on straight (within straightOnDeg) by another span of its type and status nor
-//     by a piece of its own pathway: one duct drawn as two features that meet at its bend,
-//     where another pathway joins. A third span that carries on straight from one of them, of
-//     another kind (new trench from an existing duct), is a run of its own, joined by the
-//     second rule.
-//
-// The decision rests on the geometry and the spans' properties, never on their ids beyond
-// "the same pathway", so splitting a pathway into two features where another joins it changes
-// no run. Runs and the spans in each are in span order.
-func runsAt(net *geo.Network, j string, spans []int) [][]int {
-	n := len(spans)
-	turn := make([][]float64, n) // turn[a][b]: the deflection from span a into span b at j
-	for a := range spans {
-		turn[a] = make([]float64, n)
-		for b := range spans {
-			if a != b {
-				sa, sb := &net.Spans[spans[a]], &net.Spans[spans[b]]
-				in := geo.Step{SpanID: sa.ID, Reverse: sa.From == j}
-				out := geo.Step{SpanID: sb.ID, Reverse: sb.To == j}
-				turn[a][b] = net.TurnDeg(in, out)
-			}
-		}
-	}
-	span := func(a int) *geo.Span { return &net.Spans[spans[a]] }
-	carriedOn := make([]bool, n) // by a piece of its own pathway, or straight by its own kind
-	for a := range spans {
-		for b := range spans {
-			sa, sb := span(a), span(b)
-			if a != b && (sa.PathwayID == sb.PathwayID || (turn[a][b] <= straightOnDeg && sa.Type == sb.Type && sa.Status == sb.Status)) {
-				carriedOn[a] = true
-			}
-		}
-	}
-	// bend[a] is the span a's duct bends into at j, or -1.
-	bend := make([]int, n)
-	for a := range spans {
-		bend[a] = -1
-		if carriedOn[a] {
-			continue
-		}
-		best, next := -1, math.Inf(1)
-		for b := range spans {
-			if b == a || carriedOn[b] || !sameDucts(span(a), span(b)) {
-				continue
-			}
-			switch d := turn[a][b]; {
-			case best < 0 || d < turn[a][best]:
-				if best >= 0 {
-					next = turn[a][best]
-				}
-				best = b
-			case d < next:
-				next = d
-			}
-		}
-		if best >= 0 && next-turn[a][best] >= straightOnDeg {
-			bend[a] = best
-		}
-	}
-	rep := make([]int, n)
-	for i := range rep {
-		rep[i] = i
-	}
-	find := func(x int) int {
-		for rep[x] != x {
-			x = rep[x]
-		}
-		return x
-	}
-	for a := range spans {
-		for b := a + 1; b < n; b++ {
-			if span(a).PathwayID == span(b).PathwayID || turn[a][b] <= straightOnDeg || (bend[a] == b && bend[b] == a) {
-				if x, y := find(a), find(b); x != y {
-					rep[max(x, y)] = min(x, y)
-				}
-			}
-		}
-	}
-	var runs [][]int
-	index := map[int]int{}
-	for a, i := range spans {
-		r := find(a)
-		k, ok := index[r]
-		if !ok {
-			k = len(runs)
-			index[r] = k
-			runs = append(runs, nil)
-		}
-		runs[k] = append(runs[k], i)
-	}
-	return runs
 }
 
 // tieName names a node for the canonical order of nodes at one position (canonicalize):
