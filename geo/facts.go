@@ -221,22 +221,22 @@ func sameDucts(a, b *Span) bool {
 // The decision rests on the geometry and the spans' properties, never on their ids beyond
 // "the same pathway", so splitting a pathway into two features where another joins it changes
 // no run. Runs and the spans in each are in the order of spans. Time O(len(spans)²).
-func (net *Network) RunsAt(j string, spans []int) [][]int {
-	n := len(spans)
-	turn := make([][]float64, n) // turn[a][b]: the deflection from span a into span b at j
+func (n *Network) RunsAt(j string, spans []int) [][]int {
+	k := len(spans)
+	turn := make([][]float64, k) // turn[a][b]: the deflection from span a into span b at j
 	for a := range spans {
-		turn[a] = make([]float64, n)
+		turn[a] = make([]float64, k)
 		for b := range spans {
 			if a != b {
-				sa, sb := &net.Spans[spans[a]], &net.Spans[spans[b]]
+				sa, sb := &n.Spans[spans[a]], &n.Spans[spans[b]]
 				in := Step{SpanID: sa.ID, Reverse: sa.From == j}
 				out := Step{SpanID: sb.ID, Reverse: sb.To == j}
-				turn[a][b] = net.TurnDeg(in, out)
+				turn[a][b] = n.TurnDeg(in, out)
 			}
 		}
 	}
-	span := func(a int) *Span { return &net.Spans[spans[a]] }
-	carriedOn := make([]bool, n) // by a piece of its own pathway, or straight by its own kind
+	span := func(a int) *Span { return &n.Spans[spans[a]] }
+	carriedOn := make([]bool, k) // by a piece of its own pathway, or straight by its own kind
 	for a := range spans {
 		for b := range spans {
 			sa, sb := span(a), span(b)
@@ -246,7 +246,7 @@ func (net *Network) RunsAt(j string, spans []int) [][]int {
 		}
 	}
 	// bend[a] is the span a's duct bends into at j, or -1.
-	bend := make([]int, n)
+	bend := make([]int, k)
 	for a := range spans {
 		bend[a] = -1
 		if carriedOn[a] {
@@ -271,7 +271,7 @@ func (net *Network) RunsAt(j string, spans []int) [][]int {
 			bend[a] = best
 		}
 	}
-	rep := make([]int, n)
+	rep := make([]int, k)
 	for i := range rep {
 		rep[i] = i
 	}
@@ -282,7 +282,7 @@ func (net *Network) RunsAt(j string, spans []int) [][]int {
 		return x
 	}
 	for a := range spans {
-		for b := a + 1; b < n; b++ {
+		for b := a + 1; b < k; b++ {
 			if span(a).PathwayID == span(b).PathwayID || turn[a][b] <= straightOnDeg || (bend[a] == b && bend[b] == a) {
 				if x, y := find(a), find(b); x != y {
 					rep[max(x, y)] = min(x, y)
