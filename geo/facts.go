@@ -41,14 +41,16 @@ type Pass string
 // duct can only leave it for another where someone can reach in, at a maintenance hole,
 // handhole or pull box. So a route turns from one pathway into another only at a structure;
 // where three or more spans meet with no structure, a turn needs one built there. Two spans
-// meeting alone (a duct drawn in pieces), and the pieces of one pathway split where another
-// joins it, are the same duct carried on. (Common practice, no published source; TIA-569's
+// meeting alone (a duct drawn in pieces), and spans of one run of duct through the junction
+// (RunsAt: the pieces of one pathway split where another joins it, pathways carried on
+// within straightOnDeg, one duct drawn as two features meeting at its bend), are the same
+// duct carried on. (Common practice, no published source; TIA-569's
 // rule of a pull point after at most two 90° bends of conduit is the related published rule,
 // from memory.) A turn at a building's entrance (Meeting.Buildings) is made inside the
 // building, where the cable leaves its duct anyway: it needs no structure, but it passes
 // through the building, which Transit says whether routes may do.
 const (
-	PassStraight       Pass = "straight"        // degree 2, or both spans are pieces of one pathway
+	PassStraight       Pass = "straight"        // degree 2, pieces of one pathway, or one run of duct (RunsAt)
 	PassAtStructure    Pass = "structure"       // a turn from one pathway into another at a structure
 	PassInBuilding     Pass = "building"        // a turn at an entrance, inside the building
 	PassNeedsStructure Pass = "needs-structure" // a turn with three or more spans, no structure and no building
@@ -169,7 +171,139 @@ func (n *Network) PassAt(junction, from, to string) (p Pass, ok bool) {
 	case len(m.Buildings) > 0:
 		return PassInBuilding, true
 	}
+	var at []int // the spans ending there, in index order
+	for i := range n.Spans {
+		if s := &n.Spans[i]; s.From == junction || s.To == junction {
+			at = append(at, i)
+		}
+	}
+	for _, run := range n.RunsAt(junction, at) {
+		in := func(id string) bool { return slices.ContainsFunc(run, func(i int) bool { return n.Spans[i].ID == id }) }
+		if in(from) && in(to) {
+			return PassStraight, true
+		}
+	}
 	return PassNeedsStructure, true
+}
+
+// straightOnDeg is the largest deflection, in degrees, at which a cable passing a junction
+// from one span into another is carried on in the same duct run rather than turned: a duct
+// bank drawn as several pathways meets itself end to end at small angles (common practice, no
+// published source).
+const straightOnDeg = 30
+
+// sameDucts reports whether spans a and b carry the same ducts, as far as the campus says:
+// the same pathway type and status, the same spare ducts and duct size, and no two different
+// shared-risk groups given (a group left out is the pathway's own id, which says nothing).
+// Two such pathways meeting end to end are one duct drawn in two features, as a facilities
+// GIS splits a pathway where another joins it (common practice, no published source).
+func sameDucts(a, b *Span) bool {
+	given := func(s *Span) bool { return s.Group != s.PathwayID }
+	return a.Type == b.Type && a.Status == b.Status && a.SpareDucts == b.SpareDucts && a.DuctMM == b.DuctMM &&
+		(a.Group == b.Group || !given(a) || !given(b))
+}
+
+// RunsAt groups spans, the spans ending at junction j as indices into Spans in index order,
+// into runs of duct through j: a cable carried from one span into another of its run stays in
+// its duct, from one run into another it turns (at a junction without a structure, a turn
+// that needs one built). It joins two spans when
+//
+//   - they are pieces of one pathway drawn through j;
+//   - one carries on from the other within straightOnDeg (a duct bank drawn as several
+//     pathways);
+//   - they carry the same ducts (sameDucts) and are each other's one way on, the turn between
+//     them (a bend of the duct) the least at j for both by at least straightOnDeg and neither
+//     carried on straight (within straightOnDeg) by another span of its type and status nor
+//     by a piece of its own pathway: one duct drawn as two features that meet at its bend,
+//     where another pathway joins. A third span that carries on straight from one of them, of
+//     another kind (new trench from an existing duct), is a run of its own, joined by the
+//     second rule.
+//
+// The decision rests on the geometry and the spans' properties, never on their ids beyond
+// "the same pathway", so splitting a pathway into two features where another joins it changes
+// no run. Runs and the spans in each are in the order of spans. Time O(len(spans)²).
+func (n *Network) RunsAt(j string, spans []int) [][]int {
+	k := len(spans)
+	turn := make([][]float64, k) // turn[a][b]: the deflection from span a into span b at j
+	for a := range spans {
+		turn[a] = make([]float64, k)
+		for b := range spans {
+			if a != b {
+				sa, sb := &n.Spans[spans[a]], &n.Spans[spans[b]]
+				in := Step{SpanID: sa.ID, Reverse: sa.From == j}
+				out := Step{SpanID: sb.ID, Reverse: sb.To == j}
+				turn[a][b] = n.TurnDeg(in, out)
+			}
+		}
+	}
+	span := func(a int) *Span { return &n.Spans[spans[a]] }
+	carriedOn := make([]bool, k) // by a piece of its own pathway, or straight by its own kind
+	for a := range spans {
+		for b := range spans {
+			sa, sb := span(a), span(b)
+			if a != b && (sa.PathwayID == sb.PathwayID || (turn[a][b] <= straightOnDeg && sa.Type == sb.Type && sa.Status == sb.Status)) {
+				carriedOn[a] = true
+			}
+		}
+	}
+	// bend[a] is the span a's duct bends into at j, or -1.
+	bend := make([]int, k)
+	for a := range spans {
+		bend[a] = -1
+		if carriedOn[a] {
+			continue
+		}
+		best, next := -1, math.Inf(1)
+		for b := range spans {
+			if b == a || carriedOn[b] || !sameDucts(span(a), span(b)) {
+				continue
+			}
+			switch d := turn[a][b]; {
+			case best < 0 || d < turn[a][best]:
+				if best >= 0 {
+					next = turn[a][best]
+				}
+				best = b
+			case d < next:
+				next = d
+			}
+		}
+		if best >= 0 && next-turn[a][best] >= straightOnDeg {
+			bend[a] = best
+		}
+	}
+	rep := make([]int, k)
+	for i := range rep {
+		rep[i] = i
+	}
+	find := func(x int) int {
+		for rep[x] != x {
+			x = rep[x]
+		}
+		return x
+	}
+	for a := range spans {
+		for b := a + 1; b < k; b++ {
+			if span(a).PathwayID == span(b).PathwayID || turn[a][b] <= straightOnDeg || (bend[a] == b && bend[b] == a) {
+				if x, y := find(a), find(b); x != y {
+					rep[max(x, y)] = min(x, y)
+				}
+			}
+		}
+	}
+	var runs [][]int
+	index := map[int]int{}
+	for a, i := range spans {
+		r := find(a)
+		k, ok := index[r]
+		if !ok {
+			k = len(runs)
+			index[r] = k
+			runs = append(runs, nil)
+		}
+		runs[k] = append(runs[k], i)
+	}
+	return runs
 }
 
 // TransitOf returns whether routes may pass through the building with the given ID, as Span
