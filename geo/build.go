@@ -216,6 +216,7 @@ type builder struct {
 	parts   []part
 	segs    []segRef
 	segGrid *grid
+	pws     []int // scratch: pathway indices (through)
 	vtxGrid *grid
 	mem     []member
 	parent  []int
@@ -978,13 +979,63 @@ func (b *builder) number() {
 	}
 }
 
+// pieceOrder lists the pieces in the order their pathways number them (Span.ID's piece
+// number): whatever the direction a line is drawn in, its pieces from the end that comes
+// first west to east, then south to north (a closed line from that point toward the nearer
+// such neighbour), and a pathway's lines by those ends; so reversing a line, or the lines of
+// a MultiLineString, renames no span.
+func (b *builder) pieceOrder() []int {
+	type key struct {
+		first, last orb.Point // the line's ends, in the order it is numbered
+		k           int       // the line's index in its pathway: a tie of two lines with the same ends
+		pos         int       // the piece's place along the line, as numbered
+	}
+	keys := make([]key, len(b.pieces))
+	along := make(map[int]int) // part → pieces met so far
+	for i, pc := range b.pieces {
+		p := &b.parts[pc.part]
+		a, z := p.ll[0], p.ll[len(p.ll)-1]
+		flip := lessLL(z, a)
+		if a == z && len(p.ll) > 2 {
+			flip = lessLL(p.ll[len(p.ll)-2], p.ll[1])
+		}
+		pos := along[pc.part]
+		along[pc.part]++
+		if flip {
+			a, z, pos = z, a, -pos
+		}
+		keys[i] = key{a, z, p.k, pos}
+	}
+	order := make([]int, len(b.pieces))
+	for i := range order {
+		order[i] = i
+	}
+	sort.SliceStable(order, func(x, y int) bool {
+		px, py := b.parts[b.pieces[order[x]].part].pw, b.parts[b.pieces[order[y]].part].pw
+		kx, ky := keys[order[x]], keys[order[y]]
+		switch {
+		case px != py:
+			return px < py
+		case kx.first != ky.first:
+			return lessLL(kx.first, ky.first)
+		case kx.last != ky.last:
+			return lessLL(kx.last, ky.last)
+		case kx.k != ky.k:
+			return kx.k < ky.k
+		}
+		return kx.pos < ky.pos
+	})
+	return order
+}
+
 func (b *builder) spans(n *Network) {
 	count := make(map[int]int)
 	for _, pc := range b.pieces {
 		count[b.parts[pc.part].pw]++
 	}
 	seq := make(map[int]int)
-	for _, pc := range b.pieces {
+	for _, i := range b.pieceOrder() {
+		pc := b.pieces[i]
 		p := b.parts[pc.part]
 		pw := b.c.Pathways[p.pw]
 		id := pw.ID

@@ -133,7 +133,7 @@ type Pathway struct {
 	SpareDucts int
 	DuctMM     float64
 	EMI        string // EMINone, EMILow, EMIHigh
-	Surface    string // turf, asphalt, concrete or "" (for proposed work)
+	Surface    string // turf, asphalt, concrete or "": the ground where new trench is dug along it (plan.Design.AssumedSurface when "")
 	Method     string // MethodTrench or MethodBore: how new work along it is built
 	MethodSet  bool   // the campus gives the method; otherwise a plan may choose the cheaper
 	Plenum     bool   // a tray in a plenum (an air-handling space): cable there must be plenum rated

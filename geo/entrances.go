@@ -24,6 +24,11 @@ type Entry struct {
 	// the features or on other features' ids.
 	ID string
 	Access
+	// Built says the entry is there already: no counted lateral, and an existing pathway
+	// outside the building (not a tray) ends at its junction while no proposed one does, so
+	// the wall is penetrated and sleeved where that pathway meets it. A proposed pathway there
+	// needs its own penetration. Set with the network's Meetings.
+	Built bool
 }
 
 // entryRank orders the ways one junction can be an entry of a building: a declared entrance

@@ -3,8 +3,10 @@ package geo
 import (
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 	"strconv"
+	"strings"
 
 	"github.com/paulmach/orb"
 )
@@ -39,14 +41,16 @@ type Pass string
 // duct can only leave it for another where someone can reach in, at a maintenance hole,
 // handhole or pull box. So a route turns from one pathway into another only at a structure;
 // where three or more spans meet with no structure, a turn needs one built there. Two spans
-// meeting alone (a duct drawn in pieces), and the pieces of one pathway split where another
-// joins it, are the same duct carried on. (Common practice, no published source; TIA-569's
+// meeting alone (a duct drawn in pieces), and spans of one run of duct through the junction
+// (RunsAt: the pieces of one pathway split where another joins it, pathways carried on
+// within straightOnDeg, one duct drawn as two features meeting at its bend), are the same
+// duct carried on. (Common practice, no published source; TIA-569's
 // rule of a pull point after at most two 90° bends of conduit is the related published rule,
 // from memory.) A turn at a building's entrance (Meeting.Buildings) is made inside the
 // building, where the cable leaves its duct anyway: it needs no structure, but it passes
 // through the building, which Transit says whether routes may do.
 const (
-	PassStraight       Pass = "straight"        // degree 2, or both spans are pieces of one pathway
+	PassStraight       Pass = "straight"        // degree 2, pieces of one pathway, or one run of duct (RunsAt)
 	PassAtStructure    Pass = "structure"       // a turn from one pathway into another at a structure
 	PassInBuilding     Pass = "building"        // a turn at an entrance, inside the building
 	PassNeedsStructure Pass = "needs-structure" // a turn with three or more spans, no structure and no building
@@ -167,7 +171,139 @@ func (n *Network) PassAt(junction, from, to string) (p Pass, ok bool) {
 	case len(m.Buildings) > 0:
 		return PassInBuilding, true
 	}
+	var at []int // the spans ending there, in index order
+	for i := range n.Spans {
+		if s := &n.Spans[i]; s.From == junction || s.To == junction {
+			at = append(at, i)
+		}
+	}
+	for _, run := range n.RunsAt(junction, at) {
+		in := func(id string) bool { return slices.ContainsFunc(run, func(i int) bool { return n.Spans[i].ID == id }) }
+		if in(from) && in(to) {
+			return PassStraight, true
+		}
+	}
 	return PassNeedsStructure, true
+}
+
+// straightOnDeg is the largest deflection, in degrees, at which a cable passing a junction
+// from one span into another is carried on in the same duct run rather than turned: a duct
+// bank drawn as several pathways meets itself end to end at small angles (common practice, no
+// published source).
+const straightOnDeg = 30
+
+// sameDucts reports whether spans a and b carry the same ducts, as far as the campus says:
+// the same pathway type and status, the same spare ducts and duct size, and no two different
+// shared-risk groups given (a group left out is the pathway's own id, which says nothing).
+// Two such pathways meeting end to end are one duct drawn in two features, as a facilities
+// GIS splits a pathway where another joins it (common practice, no published source).
+func sameDucts(a, b *Span) bool {
+	given := func(s *Span) bool { return s.Group != s.PathwayID }
+	return a.Type == b.Type && a.Status == b.Status && a.SpareDucts == b.SpareDucts && a.DuctMM == b.DuctMM &&
+		(a.Group == b.Group || !given(a) || !given(b))
+}
+
+// RunsAt groups spans, the spans ending at junction j as indices into Spans in index order,
+// into runs of duct through j: a cable carried from one span into another of its run stays in
+// its duct, from one run into another it turns (at a junction without a structure, a turn
+// that needs one built). It joins two spans when
+//
+//   - they are pieces of one pathway drawn through j;
+//   - one carries on from the other within straightOnDeg (a duct bank drawn as several
+//     pathways);
+//   - they carry the same ducts (sameDucts) and are each other's one way on, the turn between
+//     them (a bend of the duct) the least at j for both by at least straightOnDeg and neither
+//     carried on straight (within straightOnDeg) by another span of its type and status nor
+//     by a piece of its own pathway: one duct drawn as two features that meet at its bend,
+//     where another pathway joins. A third span that carries on straight from one of them, of
+//     another kind (new trench from an existing duct), is a run of its own, joined by the
+//     second rule.
+//
+// The decision rests on the geometry and the spans' properties, never on their ids beyond
+// "the same pathway", so splitting a pathway into two features where another joins it changes
+// no run. Runs and the spans in each are in the order of spans. Time O(len(spans)²).
+func (n *Network) RunsAt(j string, spans []int) [][]int {
+	k := len(spans)
+	turn := make([][]float64, k) // turn[a][b]: the deflection from span a into span b at j
+	for a := range spans {
+		turn[a] = make([]float64, k)
+		for b := range spans {
+			if a != b {
+				sa, sb := &n.Spans[spans[a]], &n.Spans[spans[b]]
+				in := Step{SpanID: sa.ID, Reverse: sa.From == j}
+				out := Step{SpanID: sb.ID, Reverse: sb.To == j}
+				turn[a][b] = n.TurnDeg(in, out)
+			}
+		}
+	}
+	span := func(a int) *Span { return &n.Spans[spans[a]] }
+	carriedOn := make([]bool, k) // by a piece of its own pathway, or straight by its own kind
+	for a := range spans {
+		for b := range spans {
+			sa, sb := span(a), span(b)
+			if a != b && (sa.PathwayID == sb.PathwayID || (turn[a][b] <= straightOnDeg && sa.Type == sb.Type && sa.Status == sb.Status)) {
+				carriedOn[a] = true
+			}
+		}
+	}
+	// bend[a] is the span a's duct bends into at j, or -1.
+	bend := make([]int, k)
+	for a := range spans {
+		bend[a] = -1
+		if carriedOn[a] {
+			continue
+		}
+		best, next := -1, math.Inf(1)
+		for b := range spans {
+			if b == a || carriedOn[b] || !sameDucts(span(a), span(b)) {
+				continue
+			}
+			switch d := turn[a][b]; {
+			case best < 0 || d < turn[a][best]:
+				if best >= 0 {
+					next = turn[a][best]
+				}
+				best = b
+			case d < next:
+				next = d
+			}
+		}
+		if best >= 0 && next-turn[a][best] >= straightOnDeg {
+			bend[a] = best
+		}
+	}
+	rep := make([]int, k)
+	for i := range rep {
+		rep[i] = i
+	}
+	find := func(x int) int {
+		for rep[x] != x {
+			x = rep[x]
+		}
+		return x
+	}
+	for a := range spans {
+		for b := a + 1; b < k; b++ {
+			if span(a).PathwayID == span(b).PathwayID || turn[a][b] <= straightOnDeg || (bend[a] == b && bend[b] == a) {
+				if x, y := find(a), find(b); x != y {
+					rep[max(x, y)] = min(x, y)
+				}
+			}
+		}
+	}
+	var runs [][]int
+	index := map[int]int{}
+	for a, i := range spans {
+		r := find(a)
+		k, ok := index[r]
+		if !ok {
+			k = len(runs)
+			index[r] = k
+			runs = append(runs, nil)
+		}
+		runs[k] = append(runs[k], i)
+	}
+	return runs
 }
 
 // TransitOf returns whether routes may pass through the building with the given ID, as Span
@@ -223,8 +359,109 @@ func (b *builder) facts(n *Network) {
 			}
 		}
 	}
+	built(n, at)
 	b.transit(n)
 	b.dangling(n)
+}
+
+// built marks the entries that are there already (Entry.Built), from what meets at their
+// junctions; at maps a junction ID to its index in n.Meetings.
+func built(n *Network, at map[string]int) {
+	span := func(id string) *Span { // n.Spans is sorted by ID
+		i, _ := slices.BinarySearchFunc(n.Spans, id, func(s Span, id string) int { return strings.Compare(s.ID, id) })
+		return &n.Spans[i]
+	}
+	for i := range n.Entrances {
+		e := &n.Entrances[i]
+		if e.LateralM > 0 {
+			continue
+		}
+		existing, proposed := false, false
+		for _, id := range n.Meetings[at[e.Junction]].Spans {
+			switch sp := span(id); {
+			case sp.Type == TypeTray:
+			case sp.Status == StatusProposed:
+				proposed = true
+			default:
+				existing = true
+			}
+		}
+		e.Built = existing && !proposed
+	}
+}
+
+// through warns about every proposed pathway of outside work (not a tray, not aerial) among
+// pws (the pathways with a segment near footprint f of building id; partsOf gives each
+// pathway's first and past-last part) that runs inside f for more than SnapM, past the
+// stretch from an end inside f back to its wall: a service duct drawn through the wall to
+// the telecom room enters once and is not warned of; a trench drawn across a building, or
+// into it and out again to an entrance, is, with the metres inside (projected). The plan
+// still prices those metres as new work: only the campus's author can say where it goes.
+func (b *builder) through(id string, f *footprint, pws []int, partsOf [][2]int) {
+	b.pws = b.pws[:0]
+	for _, pw := range pws {
+		if p := &b.c.Pathways[pw]; p.Status == StatusProposed && p.Type != TypeTray && p.Type != TypeAerial {
+			b.pws = append(b.pws, pw)
+		}
+	}
+	slices.Sort(b.pws)
+	for _, pw := range slices.Compact(b.pws) {
+		p := &b.c.Pathways[pw]
+		var inM float64
+		for q := partsOf[pw][0]; q < partsOf[pw][1]; q++ {
+			inM += f.passedM(&b.parts[q])
+		}
+		if inM > b.snap {
+			b.warns = append(b.warns, warnRec{p.Source, p.ID, fmt.Sprintf(
+				"proposed pathway %q runs %.1f m inside the footprint of building %q, not only to its wall: new work there is priced as if dug outside; draw it around the building, or to the wall where it enters",
+				p.ID, inM, id)})
+		}
+	}
+}
+
+// passedM is the projected length of part p inside footprint f, less the stretches from an
+// end of p inside f back to where p crosses into f (the way in to a room).
+func (f *footprint) passedM(p *part) float64 {
+	type span struct{ from, to float64 }
+	var inArr [4]span
+	var tsArr [8]float64
+	in := inArr[:0]
+	for i := 1; i < len(p.xy); i++ {
+		a, c := p.xy[i-1], p.xy[i]
+		if math.Max(a.x, c.x) < f.lo.x || math.Min(a.x, c.x) > f.hi.x || math.Max(a.y, c.y) < f.lo.y || math.Min(a.y, c.y) > f.hi.y {
+			continue
+		}
+		ts := append(tsArr[:0], 0, 1)
+		for _, poly := range f.rings {
+			for _, ring := range poly {
+				for k := 1; k < len(ring); k++ {
+					if t, _, ok := segIntersect(a, c, ring[k-1], ring[k]); ok {
+						ts = append(ts, t)
+					}
+				}
+			}
+		}
+		sort.Float64s(ts)
+		for k := 1; k < len(ts); k++ {
+			if ts[k] > ts[k-1] && f.contains(lerp(a, c, (ts[k-1]+ts[k])/2)) {
+				from, to := p.along(i-1, ts[k-1]), p.along(i-1, ts[k])
+				if n := len(in); n > 0 && from-in[n-1].to <= 1e-9 {
+					in[n-1].to = to // one stretch inside across a vertex
+					continue
+				}
+				in = append(in, span{from, to})
+			}
+		}
+	}
+	total := p.cum[len(p.cum)-1]
+	var m float64
+	for k, s := range in {
+		if (k == 0 && s.from <= 1e-9 && f.contains(p.xy[0])) || (k == len(in)-1 && s.to >= total-1e-9 && f.contains(p.xy[len(p.xy)-1])) {
+			continue
+		}
+		m += s.to - s.from
+	}
+	return m
 }
 
 // transit finds, for every building, the pathways drawn inside it: both ends of every line in
@@ -259,6 +496,7 @@ func (b *builder) transit(n *Network) {
 					t.Interior = append(t.Interior, b.c.Pathways[pw].ID)
 				}
 			}
+			b.through(bl.ID, f, pws, partsOf)
 		}
 		sort.Strings(t.Interior)
 		t.Allowed = t.Marked || len(t.Interior) > 0

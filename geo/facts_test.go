@@ -274,3 +274,38 @@ func TestParseTransit(t *testing.T) {
 		t.Errorf("got %+v: %v", p, p)
 	}
 }
+
+// TestRunsAtSplitPathway: at a junction with no structure, two pathways of the same ducts
+// that meet at a bend are one duct when nothing of their kind carries either straight on
+// (a pathway split where another joins it, tester's finding 3); a pathway of their kind
+// carried straight on from one piece makes that straight pair the run; two different groups
+// given, or other ducts, keep them apart (common practice, no published source).
+func TestRunsAtSplitPathway(t *testing.T) {
+	t.Parallel()
+	proposed := func(p Pathway) Pathway { p.Status = StatusProposed; return p }
+	grouped := func(p Pathway, g string) Pathway { p.Group = g; return p }
+	spare := func(p Pathway, n int) Pathway { p.SpareDucts = n; return p }
+	da, db := pw("Da", ml(0, 0, 0, 100)), pw("Db", ml(0, 100, -100, 100))
+	for _, tc := range []struct {
+		name     string
+		pws      []Pathway
+		from, to string
+		want     Pass
+	}{
+		{"bend, new trench straight on", []Pathway{da, db, proposed(pw("P", ml(0, 100, 0, 200)))}, "Da", "Db", PassStraight},
+		{"bend, new trench straight on: into it", []Pathway{da, db, proposed(pw("P", ml(0, 100, 0, 200)))}, "Da", "P", PassStraight},
+		{"bend, same ducts straight on", []Pathway{da, db, pw("E", ml(0, 100, 0, 200))}, "Da", "Db", PassNeedsStructure},
+		{"bend, same ducts straight on: into them", []Pathway{da, db, pw("E", ml(0, 100, 0, 200))}, "Da", "E", PassStraight},
+		{"bend, groups given differ", []Pathway{grouped(da, "G1"), grouped(db, "G2"), proposed(pw("P", ml(0, 100, 0, 200)))}, "Da", "Db", PassNeedsStructure},
+		{"bend, one group given", []Pathway{grouped(da, "G1"), db, proposed(pw("P", ml(0, 100, 0, 200)))}, "Da", "Db", PassStraight},
+		{"bend, other spare ducts", []Pathway{da, spare(db, 3), proposed(pw("P", ml(0, 100, 0, 200)))}, "Da", "Db", PassNeedsStructure},
+		{"Y of the same ducts", []Pathway{pw("Y1", ml(0, 0, 0, 100)), pw("Y2", ml(0, 100, -87, 150)), pw("Y3", ml(0, 100, 87, 150))}, "Y1", "Y2", PassNeedsStructure},
+		{"T: straight on", []Pathway{pw("Sa", ml(-100, 100, 0, 100)), pw("Sb", ml(0, 100, 100, 100)), pw("L", ml(0, 100, 0, 150))}, "Sa", "Sb", PassStraight},
+		{"T: into the branch", []Pathway{pw("Sa", ml(-100, 100, 0, 100)), pw("Sb", ml(0, 100, 100, 100)), pw("L", ml(0, 100, 0, 150))}, "Sa", "L", PassNeedsStructure},
+	} {
+		n := build(t, &Campus{Pathways: tc.pws})
+		if got, ok := n.PassAt(junctionAt(t, n, 0, 100), tc.from, tc.to); !ok || got != tc.want {
+			t.Errorf("%s: %s → %s: got %q %v, want %q", tc.name, tc.from, tc.to, got, ok, tc.want)
+		}
+	}
+}

@@ -33,6 +33,9 @@ const (
 	SurfaceConcrete = "concrete"
 )
 
+// Surfaces lists the values of a pathway's "surface" property, in a fixed order.
+func Surfaces() []string { return slices.Clone(surfaces) }
+
 // Methods of new work along a pathway, the values of its "method" property: how a proposed
 // pathway is built, and how ducts added beside an existing one are.
 const (

@@ -17,27 +17,28 @@ import (
 // Price items, the values of PriceKey.Item. Money items are read with PriceBook.Price, in
 // cents; the labour productivity items (Rate*) with PriceBook.Rate, per hour.
 const (
-	PriceCable         = "cable"          // per metre of one cable: Medium, Construction, Count strands (1 for a 4-pair copper cable)
-	PriceTermination   = "termination"    // per strand end (connector or pigtail) for fibre, per 4-pair cable end (jack) for copper: Medium
-	PriceSpliceTray    = "splice-tray"    // each
-	PriceSpliceClosure = "splice-closure" // each
-	PriceTransition    = "transition"     // each: an entrance splice enclosure where outside-plant cable meets inside cable
-	PriceEnclosure     = "enclosure"      // fibre enclosure, each: Count ports
-	PriceAdapterPanel  = "adapter-panel"  // each: Count ports
-	PriceCopperPanel   = "copper-panel"   // copper patch panel, each: Count ports
-	PriceInnerduct     = "innerduct"      // per metre
-	PriceStructure     = "structure"      // each: Name pull-box, handhole or maintenance-hole
-	PriceTrench        = "trench"         // per metre: Name surface (turf, asphalt, concrete)
-	PriceBore          = "bore"           // directional bore, per metre
-	PriceRestoration   = "restoration"    // per metre: Name surface
-	PriceAddedDuct     = "added-duct"     // one more duct in a new trench or bore, per metre
-	PriceLabourHour    = "labour-hour"    // one hour of labour
-	PriceTransceiver   = "transceiver"    // each: Name, the catalog application's price key
-	PricePatchCord     = "patch-cord"     // each, from a panel to the equipment: Medium (optional section, see PriceBook.Has)
-	PriceAttenuator    = "attenuator"     // a fixed in-line optical attenuator, each: Count dB (optional section)
-	PriceBidItem       = "bid-item"       // an entry of bid_items priced as a lump sum or per unit of its basis: Name its id (optional section)
-	PriceEntrance      = "entrance"       // building entry, each entrance a plan uses: wall penetration, sleeve or entrance conduit, firestop (optional)
-	PriceCrew          = "crew"           // crew labour, each: Name one of CrewTasks (optional, each task on its own)
+	PriceCable         = "cable"             // per metre of one cable: Medium, Construction, Count strands (1 for a 4-pair copper cable)
+	PriceTermination   = "termination"       // per strand end (connector or pigtail) for fibre, per 4-pair cable end (jack) for copper: Medium
+	PriceSpliceTray    = "splice-tray"       // each
+	PriceSpliceClosure = "splice-closure"    // each
+	PriceTransition    = "transition"        // each: an entrance splice enclosure where outside-plant cable meets inside cable
+	PriceEnclosure     = "enclosure"         // fibre enclosure, each: Count ports
+	PriceAdapterPanel  = "adapter-panel"     // each: Count ports
+	PriceCopperPanel   = "copper-panel"      // copper patch panel, each: Count ports
+	PriceInnerduct     = "innerduct"         // per metre
+	PriceStructure     = "structure"         // each: Name pull-box, handhole or maintenance-hole
+	PriceTrench        = "trench"            // per metre: Name surface (turf, asphalt, concrete)
+	PriceBore          = "bore"              // directional bore, per metre
+	PriceRestoration   = "restoration"       // per metre: Name surface
+	PriceAddedDuct     = "added-duct"        // one more duct in a new trench or bore, per metre
+	PriceLabourHour    = "labour-hour"       // one hour of labour
+	PriceTransceiver   = "transceiver"       // each: Name, the catalog application's price key
+	PricePatchCord     = "patch-cord"        // each, from a panel to the equipment: Medium (optional section, see PriceBook.Has)
+	PriceAttenuator    = "attenuator"        // a fixed in-line optical attenuator, each: Count dB (optional section)
+	PriceBidItem       = "bid-item"          // an entry of bid_items priced as a lump sum or per unit of its basis: Name its id (optional section)
+	PriceEntrance      = "entrance"          // building entry, each entrance a plan uses: wall penetration, sleeve or entrance conduit, firestop (optional)
+	PriceFirestop      = "entrance-firestop" // each entrance a plan uses that is there already: firestopping the cables through its sleeve (optional)
+	PriceCrew          = "crew"              // crew labour, each: Name one of CrewTasks (optional, each task on its own)
 
 	RatePull        = "pull-rate"        // metres pulled per hour: Name pathway type (duct, tunnel, aerial, buried, tray)
 	RateSplice      = "splice-rate"      // splices per hour
@@ -113,6 +114,8 @@ func (k PriceKey) Path() string {
 		return "bid_items[id " + k.Name + "]"
 	case PriceEntrance:
 		return "building_entrance_each"
+	case PriceFirestop:
+		return "entrance_firestop_each"
 	case PriceCrew:
 		return "crew_each." + k.Name
 	case RatePull:
@@ -373,6 +376,7 @@ type priceFile struct {
 	RestorationPerM     map[string]cents                    `yaml:"restoration_per_m"`
 	AddedDuctPerM       cents                               `yaml:"added_duct_per_m"`
 	EntranceEach        cents                               `yaml:"building_entrance_each"`
+	FirestopEach        cents                               `yaml:"entrance_firestop_each"`
 	CrewEach            map[string]cents                    `yaml:"crew_each"`
 	Labour              labourYAML                          `yaml:"labour"`
 	Transceivers        map[string]cents                    `yaml:"transceivers"`
@@ -590,6 +594,7 @@ func ParsePriceBook(name string, data []byte) (*PriceBook, error) {
 	scalar("directional_bore_per_m", PriceBore, f.DirectionalBorePerM)
 	scalar("added_duct_per_m", PriceAddedDuct, f.AddedDuctPerM)
 	scalar("building_entrance_each", PriceEntrance, f.EntranceEach)
+	scalar("entrance_firestop_each", PriceFirestop, f.FirestopEach)
 	ports := func(key, item string, m map[int]cents) {
 		for _, n := range sortedInts(m) {
 			if n <= 0 {

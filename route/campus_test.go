@@ -7,6 +7,7 @@ import (
 	"strings"
 	"testing"
 
+	"spanwright/route"
 	"spanwright/route/internal/testplan"
 	"spanwright/route/internal/testsite"
 	"spanwright/route/output"
@@ -266,6 +267,84 @@ func TestOneUsableEntrance(t *testing.T) {
 		}
 		if l.Name == routing.LegDiverse && !strings.Contains(l.Choice, "both legs use building B's only entrance") {
 			t.Errorf("diverse leg does not name B's only usable entrance: %s", l.Choice)
+		}
+	}
+}
+
+// proposed makes a duct feature (duct) a proposed trench under turf.
+func proposed(feature string) string {
+	return strings.Replace(feature, `"type":"duct"`, `"type":"duct","status":"proposed","surface":"turf"`, 1)
+}
+
+// TestSplitPathwayOneDuct: a pathway that a facilities GIS draws as two features where
+// another pathway joins it is still one duct where the two carry the same ducts: the split
+// adds no turn handhole, no pull section and no cost (tester's finding 3: D-5 split at its
+// bend where new trench P-2 joins got a turn handhole, 3 more pull sections and 3,578.01 more
+// in total). A T junction stays one for the route that turns into the branch, not for the one
+// that goes straight on. Where the same ducts carry straight on from one piece, that straight
+// pair is the run and the bend is a turn (the split drawing says no more; common practice,
+// no published source).
+func TestSplitPathwayOneDuct(t *testing.T) {
+	t.Parallel()
+	cases := []struct {
+		name         string
+		whole, split []string // the features that differ; common holds the rest
+		common       []string
+		turns        map[string]int // each link's primary leg's turns, drawn split
+		same         bool           // whole and split give the same plan
+	}{
+		{
+			name:   "bend where new trench carries on",
+			whole:  []string{duct("D", 0, 25, 0, -100, 205, -100)},
+			split:  []string{duct("D-a", 0, 25, 0, -100), duct("D-b", 0, -100, 205, -100)},
+			common: []string{testsite.Box("A", "mc", 0, 30), testsite.Box("B", "", 210, -100), testsite.Box("C", "", 0, -310), proposed(duct("P", 0, -100, 0, -305))},
+			turns:  map[string]int{"A-B": 0, "A-C": 0},
+			same:   true,
+		},
+		{
+			name:  "straight where laterals tee off",
+			whole: []string{duct("S", 0, 0, 50, 0, 250, 0, 450, 0, 500, 0)},
+			split: []string{duct("S-a", 0, 0, 50, 0, 250, 0), duct("S-b", 250, 0, 450, 0, 500, 0)},
+			common: []string{testsite.Box("A", "mc", 50, 25), testsite.Box("B", "", 250, 25), testsite.Box("C", "", 450, 25),
+				duct("LA", 50, 0, 50, 20), duct("LB", 250, 0, 250, 20), duct("LC", 450, 0, 450, 20)},
+			turns: map[string]int{"A-B": 2, "A-C": 2},
+			same:  true,
+		},
+		{
+			name:   "the same ducts carry straight on from one piece",
+			whole:  []string{duct("D", 0, 25, 0, -100, 205, -100)},
+			split:  []string{duct("D-a", 0, 25, 0, -100), duct("D-b", 0, -100, 205, -100)},
+			common: []string{testsite.Box("A", "mc", 0, 30), testsite.Box("B", "", 210, -100), testsite.Box("C", "", 0, -310), duct("E", 0, -100, 0, -305)},
+			turns:  map[string]int{"A-B": 1, "A-C": 0},
+		},
+	}
+	for _, tc := range cases {
+		solve := func(fs []string) (*route.Result, output.Summary) {
+			r, err := testplan.PullSolveJSON(t, collection(append(slices.Clone(tc.common), fs...)...), nil)
+			if err != nil {
+				t.Fatalf("%s: %v", tc.name, err)
+			}
+			return r, output.Summarize(r)
+		}
+		rw, sw := solve(tc.whole)
+		rs, ss := solve(tc.split)
+		for _, l := range rs.Legs {
+			if w, ok := tc.turns[l.Link.ID]; ok && l.Name == routing.LegPrimary && (!l.Feasible || len(l.Turns) != w) {
+				t.Errorf("%s: split: leg %s feasible %v, turns %q; want %d turns", tc.name, l.Link.ID, l.Feasible, l.Turns, w)
+			}
+		}
+		if !tc.same {
+			continue
+		}
+		if sw.TotalCents != ss.TotalCents || sw.TurnHandholes != ss.TurnHandholes || sw.PullSections != ss.PullSections || sw.RunHandholes != ss.RunHandholes {
+			t.Errorf("%s: whole total %d, turn handholes %d, pull sections %d, run handholes %d; split %d, %d, %d, %d", tc.name,
+				sw.TotalCents, sw.TurnHandholes, sw.PullSections, sw.RunHandholes, ss.TotalCents, ss.TurnHandholes, ss.PullSections, ss.RunHandholes)
+		}
+		for i, l := range rw.Legs {
+			if m := rs.Legs[i]; m.Link.ID != l.Link.ID || m.Feasible != l.Feasible || len(m.Turns) != len(l.Turns) || m.Cost != l.Cost {
+				t.Errorf("%s: leg %s/%s whole: feasible %v, turns %q, cost %v; split: feasible %v, turns %q, cost %v", tc.name, l.Link.ID, l.Name,
+					l.Feasible, l.Turns, l.Cost, m.Feasible, m.Turns, m.Cost)
+			}
 		}
 	}
 }

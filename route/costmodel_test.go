@@ -102,7 +102,7 @@ func routeDependent(pb *media.PriceBook, item string, price, rate media.PriceKey
 	case media.PriceStructure:
 		return item == "handhole where new pathway joins the network" || item == "handhole where a route turns between pathways" ||
 			item == "handhole along new construction"
-	case media.PriceEntrance:
+	case media.PriceEntrance, media.PriceFirestop:
 		return true
 	case media.PriceCrew:
 		return price.Name != media.CrewEnclosureInstall // enclosures follow the media, not the routes
@@ -372,7 +372,7 @@ func objectiveOf(r *route.Result, prob *optimize.Problem, pb *media.PriceBook, l
 	// with one the constant part of the objective (routing.Routed.ConstantCents).
 	for _, en := range r.Estimate.Construction.Entrances {
 		if en.Single {
-			for _, q := range items.Entrance(pb, r.Plan.Design, en.LateralM) {
+			for _, q := range items.Entrance(pb, r.Plan.Design, en.LateralM, en.Built) {
 				c += pb.Cents(q)
 			}
 			for _, q := range items.BidPer(pb, media.BidBases{NewBuriedM: 1}) {
@@ -450,6 +450,7 @@ func TestCostModelMovesWithTheBill(t *testing.T) {
 		{"added duct", "added_duct_per_m: 7.50", "added_duct_per_m: 17.50"},
 		{"handhole", "handhole: 2400.00", "handhole: 4400.00"},
 		{"building entrance", "building_entrance_each: 1250.00", "building_entrance_each: 2000.00"},
+		{"firestop at an entrance already there", "entrance_firestop_each: 190.00", "entrance_firestop_each: 300.00"},
 		{"crew pull set-up", "pull_setup: 95.00", "pull_setup: 150.00"},
 		{"crew structure entry", "structure_entry: 40.00", "structure_entry: 70.00"},
 		{"crew cable end", "cable_end_prep: 30.00", "cable_end_prep: 50.00"},

@@ -228,6 +228,14 @@ func prepare(s *site.Site, p *plan.Plan, eng *media.Engine) (prepared, error) {
 	return prepared{hub: hub, links: links, notes: notes, model: model}, nil
 }
 
+// Design is the plan's design, or the defaults for a result with no plan.
+func (r *Result) Design() plan.Design {
+	if r.Plan == nil {
+		return plan.Default.Design
+	}
+	return r.Plan.Design
+}
+
 // Inputs lists the files the plan read, which outputs must never overwrite.
 func (r *Result) Inputs() []string {
 	in := []string{r.Plan.File}

@@ -8,6 +8,7 @@ import (
 	"slices"
 	"sort"
 	"strconv"
+	"strings"
 
 	"spanwright/geo"
 	"spanwright/media"
@@ -156,6 +157,20 @@ type Construction struct {
 	// Entrances are the building entrances the plan uses (routing.Routed.Entrances); their
 	// counted laterals are in TrenchM or BoreM and AddedDuctM.
 	Entrances []routing.EntranceUse
+	// Assumed is the new trench priced on the design's assumed_surface because the campus
+	// gives its pathway no surface (items.SurfaceAssumed), in the order it is counted: opened
+	// spans, counted laterals, trenches beside existing ducts. Its surface is TrenchM's key
+	// AssumedSurface.
+	Assumed        []AssumedWork
+	AssumedSurface string
+}
+
+// AssumedWork is new trench priced on an assumed surface: what it is for (a bill source,
+// "span D-4" or "entrance E-1 of building B") and its metres.
+type AssumedWork struct {
+	From    string
+	LengthM float64
+	Lateral bool // a counted lateral to an entrance, else a span
 }
 
 // RunHandhole is a handhole along new construction: on a span, AtM metres from its From end.
@@ -660,16 +675,21 @@ func (r *run) connectivity() {
 }
 
 // newWork counts new work along a span built by method (items.MethodOf): bored, or trenched
-// on its surface; from records the span under its line.
-func (c *Construction) newWork(sp *geo.Span, method string, from map[string][]string, source string) {
+// on its surface (items.SurfaceOf, noting an assumed one); from records the span under its
+// line.
+func (c *Construction) newWork(d plan.Design, sp *geo.Span, method string, from map[string][]string, source string) {
 	if method == geo.MethodBore {
 		c.BoreM += sp.LengthM
 		from[keyBore] = append(from[keyBore], source)
 		return
 	}
-	sf := items.SurfaceOf(sp)
+	sf := items.SurfaceOf(d, sp)
 	c.TrenchM[sf] += sp.LengthM
 	from[sf] = append(from[sf], source)
+	if items.SurfaceAssumed(sp, method) {
+		c.Assumed = append(c.Assumed, AssumedWork{From: source, LengthM: sp.LengthM, Lateral: sp.ID == ""})
+		c.AssumedSurface = sf
+	}
 }
 
 // construction totals the new civil work: opened spans (trench and restoration on their
@@ -686,7 +706,7 @@ func (r *run) construction() {
 	}
 	for _, id := range r.Opened {
 		sp, _ := s.Net.Span(id)
-		c.newWork(&sp, items.MethodOf(r.Engine.PriceBook(), &sp), r.newFrom, fromSpan(id))
+		c.newWork(design, &sp, items.MethodOf(r.Engine.PriceBook(), design, &sp), r.newFrom, fromSpan(id))
 		if sp.Type == geo.TypeDuct {
 			c.AddedDuctM += float64(max(design.NewDucts, 1)) * sp.LengthM // items.Opening
 			r.newFrom[keyAddedDuct] = append(r.newFrom[keyAddedDuct], fromSpan(id))
@@ -705,7 +725,7 @@ func (r *run) construction() {
 			continue
 		}
 		lat := &geo.Span{Type: geo.TypeDuct, LengthM: en.LateralM}
-		c.newWork(lat, items.MethodOf(r.Engine.PriceBook(), lat), r.newFrom, fromEntrance(en))
+		c.newWork(design, lat, items.MethodOf(r.Engine.PriceBook(), design, lat), r.newFrom, fromEntrance(en))
 		c.AddedDuctM += float64(max(design.NewDucts, 1)) * en.LateralM
 		c.LateralM += en.LateralM
 		r.newFrom[keyAddedDuct] = append(r.newFrom[keyAddedDuct], fromEntrance(en))
@@ -722,7 +742,7 @@ func (r *run) construction() {
 	for _, f := range r.Fill {
 		if f.AddedDucts > 0 {
 			sp, _ := s.Net.Span(f.Span)
-			c.newWork(&sp, items.MethodOf(r.Engine.PriceBook(), &sp), r.newFrom, fromSpan(f.Span))
+			c.newWork(design, &sp, items.MethodOf(r.Engine.PriceBook(), design, &sp), r.newFrom, fromSpan(f.Span))
 			c.AddedDuctM += float64(f.AddedDucts) * sp.LengthM
 			r.newFrom[keyAddedDuct] = append(r.newFrom[keyAddedDuct], fromSpan(f.Span))
 		}
@@ -732,6 +752,44 @@ func (r *run) construction() {
 		c.NewM += c.TrenchM[sf]
 	}
 	r.Estimate.Construction = c
+	if w := c.assumedWarning(); w != "" {
+		r.Estimate.Warnings = append(r.Estimate.Warnings, w)
+	}
+}
+
+// assumedWarning is the one line that tells an estimator how much new trench was priced on
+// the design's assumed surface; "" when none was. The report lists each span and lateral.
+func (c *Construction) assumedWarning() string {
+	if len(c.Assumed) == 0 {
+		return ""
+	}
+	var m float64
+	spans, laterals := 0, 0
+	for _, a := range c.Assumed {
+		m += a.LengthM
+		if a.Lateral {
+			laterals++
+		} else {
+			spans++
+		}
+	}
+	var what []string
+	if spans > 0 {
+		what = append(what, counted(spans, "span", "spans"))
+	}
+	if laterals > 0 {
+		what = append(what, counted(laterals, "counted lateral", "counted laterals"))
+	}
+	return fmt.Sprintf("new trench priced on an assumed surface, %s (design.assumed_surface): %s, %.1f m, to which the campus gives no surface; the report lists them",
+		c.AssumedSurface, strings.Join(what, " and "), m)
+}
+
+// counted is n with its noun, one or many.
+func counted(n int, one, many string) string {
+	if n == 1 {
+		return "1 " + one
+	}
+	return strconv.Itoa(n) + " " + many
 }
 
 // legItems lists what one feasible leg puts on the bill of materials: its cables, entrance
@@ -908,14 +966,20 @@ func (r *run) quantities() {
 		}
 		e.Quantities = append(e.Quantities, one(items.RunHandholes(len(con.RunHandholes)), on))
 	}
-	if p.Has(media.PriceEntrance) && len(con.Entrances) > 0 {
+	// The entries, new or there already (items.Entrance), one line of each.
+	for _, built := range []bool{false, true} {
 		var at []string
+		var q []media.Quantity
 		for _, en := range con.Entrances {
-			at = append(at, fromEntrance(en))
+			if en.Built == built {
+				at = append(at, fromEntrance(en))
+				q = items.Entrance(p, design, 0, built)
+			}
 		}
-		q := items.Entrance(p, design, 0)[0]
-		q.Amount = float64(len(con.Entrances))
-		e.Quantities = append(e.Quantities, one(q, at))
+		if len(q) > 0 {
+			q[0].Amount = float64(len(at))
+			e.Quantities = append(e.Quantities, one(q[0], at))
+		}
 	}
 	// The added pull points come from the pulls of the legs that need them.
 	var pulled []string

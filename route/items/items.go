@@ -101,19 +101,19 @@ func Bore(metres float64) media.Quantity {
 }
 
 // NewWork is new civil work along metres of a span built by method: a bore, or trench and
-// restoration of its surface.
-func NewWork(sp *geo.Span, method string, metres float64) []media.Quantity {
+// restoration of its surface (SurfaceOf).
+func NewWork(d plan.Design, sp *geo.Span, method string, metres float64) []media.Quantity {
 	if method == geo.MethodBore {
 		return []media.Quantity{Bore(metres)}
 	}
-	return Trench(SurfaceOf(sp), metres)
+	return Trench(SurfaceOf(d, sp), metres)
 }
 
 // MethodOf is how new work along a span is built: the campus's method when it gives one;
 // otherwise, when the price book prices both, the cheaper per metre of trench with the
 // restoration of the span's surface and directional bore (trench on a tie); otherwise trench.
 // The optimizer's problem and the bill both ask here, so they build the same way.
-func MethodOf(p *media.PriceBook, sp *geo.Span) string {
+func MethodOf(p *media.PriceBook, d plan.Design, sp *geo.Span) string {
 	if sp.MethodSet {
 		return sp.Method
 	}
@@ -128,7 +128,7 @@ func MethodOf(p *media.PriceBook, sp *geo.Span) string {
 		}
 		return c, true
 	}
-	trench, okT := perM(Trench(SurfaceOf(sp), 1)...)
+	trench, okT := perM(Trench(SurfaceOf(d, sp), 1)...)
 	bore, okB := perM(Bore(1))
 	if okT && okB && bore < trench {
 		return geo.MethodBore
@@ -155,10 +155,10 @@ func JoinHandholes(n int) media.Quantity {
 // design's ducts (plan.Design.NewDucts, at least one) when it is a duct. The handholes along
 // its run are RunHandholes; those where it joins the network are charges of their junctions,
 // paid once however many opened spans meet there (package routing, layout).
-func Opening(sp *geo.Span, method string, ducts int) []media.Quantity {
-	q := NewWork(sp, method, sp.LengthM)
+func Opening(d plan.Design, sp *geo.Span, method string) []media.Quantity {
+	q := NewWork(d, sp, method, sp.LengthM)
 	if sp.Type == geo.TypeDuct {
-		q = append(q, AddedDuct(float64(max(ducts, 1))*sp.LengthM))
+		q = append(q, AddedDuct(float64(max(d.NewDucts, 1))*sp.LengthM))
 	}
 	return q
 }
@@ -170,20 +170,30 @@ func RunHandholes(n int) media.Quantity {
 		Unit: media.UnitEach, Amount: float64(n), Price: media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole}}
 }
 
-// Entrance is what a building entrance a plan uses takes: its entry (wall penetration, sleeve
-// or entrance conduit, firestop) when the book prices building_entrance_each, and, when the
-// campus reaches it by a counted lateral of lateralM metres (no pathway drawn), that lateral
-// built as new construction is: trench or bore, restoration of turf, the design's ducts.
-// Cables in the lateral are pulled in duct (LegEnds).
-func Entrance(p *media.PriceBook, d plan.Design, lateralM float64) []media.Quantity {
+// Entrance is what a building entrance a plan uses takes: its entry, and, when the campus
+// reaches it by a counted lateral of lateralM metres (no pathway drawn), that lateral built as
+// new construction is: trench or bore, restoration of the design's assumed surface, the
+// design's ducts. Cables in the lateral are pulled in duct (LegEnds).
+//
+// The entry is the one decision of what a wall costs (README, "Building entry"): a new one
+// (wall penetration, sleeve or entrance conduit, firestop) at building_entrance_each; one that
+// is there already (geo.Entry.Built: an existing pathway meets the wall, no proposed one)
+// needs only the cables firestopped through its sleeve, at entrance_firestop_each, or at
+// building_entrance_each when the book has no such price (the dearer, rather than nothing).
+// A book with neither prices no entry.
+func Entrance(p *media.PriceBook, d plan.Design, lateralM float64, built bool) []media.Quantity {
 	var q []media.Quantity
-	if p.Has(media.PriceEntrance) {
+	switch {
+	case built && p.Has(media.PriceFirestop):
+		q = append(q, media.Quantity{Category: media.CategoryConstruction, Item: "building entrance already there: firestop through its sleeve",
+			Unit: media.UnitEach, Amount: 1, Price: media.PriceKey{Item: media.PriceFirestop}})
+	case p.Has(media.PriceEntrance):
 		q = append(q, media.Quantity{Category: media.CategoryConstruction, Item: "building entrance: penetration, sleeve, firestop",
 			Unit: media.UnitEach, Amount: 1, Price: media.PriceKey{Item: media.PriceEntrance}})
 	}
 	if lateralM > 0 {
 		lat := &geo.Span{Type: geo.TypeDuct, LengthM: lateralM}
-		q = append(q, Opening(lat, MethodOf(p, lat), d.NewDucts)...)
+		q = append(q, Opening(d, lat, MethodOf(p, d, lat))...)
 	}
 	return q
 }
@@ -281,12 +291,24 @@ func TurnHandholes(n int) media.Quantity {
 		Unit: media.UnitEach, Amount: float64(n), Price: media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole}}
 }
 
-// SurfaceOf is the surface priced for new work on a span: its own, else turf.
-func SurfaceOf(sp *geo.Span) string {
+// SurfaceOf is the surface priced for new work on a span: its own, else the design's
+// assumed_surface (SurfaceAssumed). A trench beside an existing duct is dug in the existing
+// pathway's surface when the campus gives one; a counted lateral has none of its own.
+func SurfaceOf(d plan.Design, sp *geo.Span) string {
 	if sp.Surface != "" {
 		return sp.Surface
 	}
-	return geo.SurfaceTurf
+	if d.AssumedSurface != "" {
+		return d.AssumedSurface
+	}
+	return plan.Default.Design.AssumedSurface // a Design built in code, not read from a plan
+}
+
+// SurfaceAssumed reports whether new work on span sp built by method is priced on an assumed
+// surface (SurfaceOf): a trench along a span the campus gives no surface. A bore restores
+// no surface.
+func SurfaceAssumed(sp *geo.Span, method string) bool {
+	return method != geo.MethodBore && sp.Surface == ""
 }
 
 // KeysOf lists the prices and rates quantities need.

@@ -262,10 +262,10 @@ func planLayers(ctx context.Context, r *route.Result) ([]gpkgout.Layer, error) {
 		if !ok {
 			return nil, fmt.Errorf("span %s of the new construction: not in the network", w.span)
 		}
-		method := items.MethodOf(r.Engine.PriceBook(), &sp)
+		method := items.MethodOf(r.Engine.PriceBook(), r.Design(), &sp)
 		var surface any
 		if method != geo.MethodBore {
-			surface = items.SurfaceOf(&sp)
+			surface = items.SurfaceOf(r.Design(), &sp)
 		}
 		add(LayerConstruction, sp.Line, sp.ID, sp.PathwayID, w.kind, method, surface, round1(sp.LengthM), w.added, nil)
 	}
@@ -281,10 +281,10 @@ func planLayers(ctx context.Context, r *route.Result) ([]gpkgout.Layer, error) {
 			}
 		}
 		lat := &geo.Span{Type: geo.TypeDuct, LengthM: en.LateralM}
-		method := items.MethodOf(r.Engine.PriceBook(), lat)
+		method := items.MethodOf(r.Engine.PriceBook(), r.Design(), lat)
 		var surface any
 		if method != geo.MethodBore {
-			surface = items.SurfaceOf(lat)
+			surface = items.SurfaceOf(r.Design(), lat)
 		}
 		add(LayerConstruction, line, nil, nil, WorkLateral, method, surface, round1(en.LateralM), 0, en.Entrance)
 	}

@@ -9,6 +9,7 @@ import (
 
 	"go.yaml.in/yaml/v3"
 
+	"spanwright/geo"
 	"spanwright/geo/input"
 	"spanwright/media"
 )
@@ -133,6 +134,10 @@ type Design struct {
 	// New construction: how a proposed pathway is built when the plan opens it.
 	NewDucts         int     `yaml:"new_ducts"`          // ducts laid in each new trench or bore of a duct pathway
 	HandholeSpacingM float64 `yaml:"handhole_spacing_m"` // most metres between pull points along new construction; 0 for no limit
+	// AssumedSurface is the surface new work is priced on where the campus gives none: a
+	// pathway without "surface" (every trench beside an existing duct whose pathway has none)
+	// and a counted lateral. Every span and lateral billed on it is named in a warning.
+	AssumedSurface string `yaml:"assumed_surface"`
 
 	// Innerduct: when InnerductODMM > 0, every cable laid in a duct goes into an innerduct of
 	// its own, of this outside and inside diameter in millimetres. Duct fill then counts the
@@ -217,6 +222,10 @@ var Default = Plan{
 		// handhole about every 150 m; the bend budget between them is pull_bend_deg.
 		NewDucts:         2,
 		HandholeSpacingM: 150,
+		// Common practice, no published source: most campus trench runs under lawns, and the
+		// cheapest surface is the one an estimator must be told was assumed (a warning names
+		// every span billed on it).
+		AssumedSurface: geo.SurfaceTurf,
 	},
 }
 
@@ -393,6 +402,9 @@ func (p *Plan) validate(errs *input.Problems) {
 	}
 	if g.Objective != ObjectiveCost && g.Objective != ObjectiveLength {
 		bad("design.objective", input.ErrBadValue, "want %q or %q, got %q", ObjectiveCost, ObjectiveLength, g.Objective)
+	}
+	if !reported("design.assumed_surface") && !slices.Contains(geo.Surfaces(), g.AssumedSurface) {
+		bad("design.assumed_surface", input.ErrBadValue, "want one of %s, got %q", strings.Join(geo.Surfaces(), ", "), g.AssumedSurface)
 	}
 	if !reported("design.handhole_spacing_m") && g.HandholeSpacingM > 0 && g.HandholeSpacingM < MinHandholeSpacingM {
 		bad("design.handhole_spacing_m", input.ErrBadValue, "want 0 (no limit) or at least %g metres, got %g", float64(MinHandholeSpacingM), g.HandholeSpacingM)

@@ -62,6 +62,7 @@ func TestParsePlanErrors(t *testing.T) {
 		{"bad redundancy", "campus: [c]\ndefaults: {redundancy: double}\n", []string{`plan.yaml:2:24: defaults.redundancy: want "none" or "diverse", got "double"`}},
 		{"link without to", "campus: [c]\nlinks:\n  - {from: A}\n", []string{"plan.yaml:3:5: links[0].to: missing; a link names the building it serves"}},
 		{"bad objective", "campus: [c]\ndesign: {objective: speed}\n", []string{`plan.yaml:2:21: design.objective: want "cost" or "length", got "speed"`}},
+		{"bad assumed surface", "campus: [c]\ndesign: {assumed_surface: gravel}\n", []string{`plan.yaml:2:27: design.assumed_surface: want one of turf, asphalt, concrete, got "gravel"`}},
 		// Each problem on its own line, with its line and column, in line order: unknown keys
 		// and bad values together, named by their key path, never by a Go type.
 		{"nested problems on their own lines", "campus: [c]\ndesign:\n  snap: 2\n  loss_margin_db: lots\n  pull_mu: 0.3\n  slak_m: 1\n",

@@ -567,9 +567,12 @@ func overRoutes(r *route.Result, p *projection, opt Options) (carriers, works []
 		if opened[s.ID] || added[s.ID] > 0 {
 			method := geo.MethodTrench
 			if pb := r.Engine; pb != nil {
-				method = items.MethodOf(pb.PriceBook(), s)
+				method = items.MethodOf(pb.PriceBook(), r.Design(), s)
 			}
-			cls, what := "nw-trench", "new trench in "+items.SurfaceOf(s)
+			cls, what := "nw-trench", "new trench in "+items.SurfaceOf(r.Design(), s)
+			if items.SurfaceAssumed(s, method) {
+				what += " (assumed: the pathway gives no surface)"
+			}
 			if method == geo.MethodBore {
 				cls, what = "nw-bore", "new directional bore"
 			}

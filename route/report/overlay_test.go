@@ -43,7 +43,7 @@ func TestMapDrawsOverRoutes(t *testing.T) {
 		for i := range r.Site.Net.Spans {
 			s := &r.Site.Net.Spans[i]
 			if opened[s.ID] {
-				wantWorks[s.ID] = "nw-" + items.MethodOf(r.Engine.PriceBook(), s)
+				wantWorks[s.ID] = "nw-" + items.MethodOf(r.Engine.PriceBook(), r.Design(), s)
 			}
 			if cables[s.ID] > 0 && s.Status != geo.StatusProposed && (s.Type == geo.TypeTunnel || s.Type == geo.TypeAerial) {
 				wantCarriers++

@@ -220,7 +220,11 @@ type planView struct {
 	// prints it); Bound is "" without a bound.
 	Objective, Bound, Gap string
 	Warnings              []string
-	Buildings             []buildingRow
+	// Assumed lists the new trench priced on the design's assumed surface (AssumedSurface),
+	// each as its source and length (estimate.Construction.Assumed).
+	Assumed        []string
+	AssumedSurface string
+	Buildings      []buildingRow
 	// How much of each detail table is listed (DetailRows).
 	LegsListed, PullsListed, DuctsListed, FillListed listed
 }
@@ -482,6 +486,12 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 	// report writes their lengths in its units, as it does the rule engine's reasons.
 	for _, w := range r.Warnings {
 		v.Warnings = append(v.Warnings, output.InUnits(output.WriteOptions{Units: opt.Units}, w))
+	}
+	if e := r.Estimate; e != nil {
+		v.AssumedSurface = e.Construction.AssumedSurface
+		for _, a := range e.Construction.Assumed {
+			v.Assumed = append(v.Assumed, a.From+": "+opt.lengthU(a.LengthM))
+		}
 	}
 	if err := ctx.Err(); err != nil {
 		return nil, err

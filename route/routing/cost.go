@@ -243,7 +243,7 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 			e.Flags |= flagDuct
 		}
 		if sp.Status == geo.StatusProposed {
-			open := items.Opening(sp, items.MethodOf(m.prices, sp), d.NewDucts)
+			open := items.Opening(d, sp, items.MethodOf(m.prices, d, sp))
 			if err := m.prices.Check(items.KeysOf(open)); err != nil {
 				return nil, nil, nil, err
 			}
@@ -255,7 +255,7 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 			e.Ducts, e.DuctIDMM = sp.SpareDucts, sp.DuctMM
 			// One trench or bore beside the span however many ducts it gets, and the ducts;
 			// new civil work, so only when the plan allows new trench.
-			work := items.NewWork(sp, items.MethodOf(m.prices, sp), 1)
+			work := items.NewWork(d, sp, items.MethodOf(m.prices, d, sp), 1)
 			if d.AllowNewTrench && m.prices.Check(items.KeysOf(append(work, items.AddedDuct(1)))) == nil && m.perM(items.AddedDuct(1)) > 0 {
 				e.AddDuctPerMCents = m.perM(items.AddedDuct(1))
 				e.AddTrenchPerMCents = m.perM(append(work, m.bidItems(media.BidBases{NewBuriedM: 1})...)...)
@@ -516,7 +516,7 @@ func (m *Model) bidItems(bases media.BidBases) []media.Quantity {
 // work along the lateral.
 func (m *Model) entranceCents(building string, e geo.Entry) (int64, error) {
 	lateralM := e.LateralM
-	work := items.Entrance(m.prices, m.design, lateralM)
+	work := items.Entrance(m.prices, m.design, lateralM, e.Built)
 	if err := m.prices.Check(items.KeysOf(work)); err != nil {
 		if lateralM > 0 {
 			return 0, fmt.Errorf("building %s, entrance %s: its counted lateral of %.1f m is built as new construction: %w", building, e.ID, lateralM, err)

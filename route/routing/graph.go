@@ -32,10 +32,12 @@ import (
 //     the building's node by its own entrance edge, the edges of one entrance sharing a
 //     shared-risk group (so two legs of a diverse link do not use one entrance twice).
 //   - A junction where three or more spans of different pathways meet with no structure and no
-//     building is split into one node per run of duct through it (the pieces of one pathway,
-//     and spans that carry on within straightOnDeg of a straight line: one duct bank drawn as
-//     several pathways) joined by turn edges of no length: a route that turns there from one
-//     run into another takes a turn edge (geo.PassNeedsStructure).
+//     building is split into one node per run of duct through it (geo.Network.RunsAt: the pieces of one
+//     pathway, spans that carry on within straightOnDeg of a straight line, as one duct bank
+//     drawn as several pathways, and two pathways of the same ducts that meet at a bend of the
+//     duct, as a facilities GIS splits one where another joins it) joined by turn edges of no
+//     length: a route that turns there from one run into another takes a turn edge
+//     (geo.PassNeedsStructure).
 //   - A handhole at a junction without a structure — where the route turns (a turn edge), or
 //     where new pathway joins the network (an opened proposed span ends, site.JoinsNetwork) —
 //     is one charge (optimize.Charge) over those edges, paid once however many routes use it:
@@ -230,7 +232,7 @@ func newLayout(s *site.Site) *layout {
 				l.setEnd(net, i, jn.ID, n)
 			}
 		case turnAt[j]:
-			for _, run := range runsAt(net, jn.ID, spansAt[j]) {
+			for _, run := range net.RunsAt(jn.ID, spansAt[j]) {
 				name, bearing := net.Spans[run[0]].PathwayID, bearingAt(net, run[0], jn.ID)
 				for _, i := range run[1:] {
 					name, bearing = min(name, net.Spans[i].PathwayID), min(bearing, bearingAt(net, i, jn.ID))
@@ -374,53 +376,6 @@ func (l *layout) setEnd(net *geo.Network, i int, j string, n int) {
 func inBuilding(net *geo.Network, j, b string) bool {
 	m, ok := net.MeetingAt(j)
 	return ok && slices.Contains(m.Buildings, b)
-}
-
-// straightOnDeg is the largest deflection, in degrees, at which a cable passing a junction
-// from one span into another is carried on in the same duct run rather than turned: a duct
-// bank drawn as several pathways meets itself end to end at small angles (common practice, no
-// published source).
-const straightOnDeg = 30
-
-// runsAt groups the spans ending at junction j into runs of duct through it: spans of one
-// pathway, or carrying on from each other within straightOnDeg. Runs and the spans in each are
-// in span order.
-func runsAt(net *geo.Network, j string, spans []int) [][]int {
-	rep := make([]int, len(spans))
-	for i := range rep {
-		rep[i] = i
-	}
-	find := func(x int) int {
-		for rep[x] != x {
-			x = rep[x]
-		}
-		return x
-	}
-	for a := range spans {
-		for b := a + 1; b < len(spans); b++ {
-			sa, sb := &net.Spans[spans[a]], &net.Spans[spans[b]]
-			in := geo.Step{SpanID: sa.ID, Reverse: sa.From == j}
-			out := geo.Step{SpanID: sb.ID, Reverse: sb.To == j}
-			if sa.PathwayID == sb.PathwayID || net.TurnDeg(in, out) <= straightOnDeg {
-				if x, y := find(a), find(b); x != y {
-					rep[max(x, y)] = min(x, y)
-				}
-			}
-		}
-	}
-	var runs [][]int
-	index := map[int]int{}
-	for a, i := range spans {
-		r := find(a)
-		k, ok := index[r]
-		if !ok {
-			k = len(runs)
-			index[r] = k
-			runs = append(runs, nil)
-		}
-		runs[k] = append(runs[k], i)
-	}
-	return runs
 }
 
 // tieName names a node for the canonical order of nodes at one position (canonicalize):

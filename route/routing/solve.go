@@ -61,6 +61,7 @@ type EntranceUse struct {
 	Entrance string  // geo.Entry ID
 	LateralM float64 // its counted lateral, built as new construction (items.Entrance)
 	Single   bool    // the building's only entrance
+	Built    bool    // the entrance is there already (geo.Entry.Built): its cables are only firestopped
 }
 
 // Handhole is a handhole the plan adds at a junction without a structure.
@@ -156,7 +157,7 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 	r.Entrances = entrancesUsed(lay, r.Legs)
 	for _, e := range r.Entrances {
 		if e.Single {
-			c, _ := m.entranceCents(e.Building, geo.Entry{ID: e.Entrance, Access: geo.Access{LateralM: e.LateralM}}) // checked by problem
+			c, _ := m.entranceCents(e.Building, geo.Entry{ID: e.Entrance, Access: geo.Access{LateralM: e.LateralM}, Built: e.Built}) // checked by problem
 			r.ConstantCents += c
 		}
 	}
@@ -177,12 +178,12 @@ func entrancesUsed(lay *layout, legs []Leg) []EntranceUse {
 		}
 		seen[[2]string{b, id}] = true
 		if e, ok := lay.endEntry[b]; ok && e.ID == id {
-			out = append(out, EntranceUse{Building: b, Entrance: id, LateralM: e.LateralM, Single: true})
+			out = append(out, EntranceUse{Building: b, Entrance: id, LateralM: e.LateralM, Single: true, Built: e.Built})
 			return
 		}
 		for _, en := range lay.entrances {
 			if en.building == b && en.entry.ID == id {
-				out = append(out, EntranceUse{Building: b, Entrance: id, LateralM: en.entry.LateralM})
+				out = append(out, EntranceUse{Building: b, Entrance: id, LateralM: en.entry.LateralM, Built: en.entry.Built})
 				return
 			}
 		}

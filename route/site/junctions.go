@@ -83,9 +83,14 @@ func (s *Site) UnreachableServed(hub string, links []Link) []string {
 
 // JoinsNetwork reports whether an opened span ending at junction j gets a handhole there: j
 // is a junction without a structure that is not a building's entrance, where the new pathway
-// joins others or branches, not one inside a run of new construction where it carries on
-// (InRun; common practice, no published source).
+// joins others or branches, not one where it carries on: inside a run of new construction
+// (InRun), or where two pieces of new pathway of another type meet alone, as a proposed
+// direct-buried pathway drawn as two features (common practice, no published source).
 func (s *Site) JoinsNetwork(j string) bool {
 	jn, ok := s.Net.Junction(j)
-	return ok && jn.Kind == geo.JunctionNode && !s.entrance[j] && !s.InRun(j)
+	if !ok || jn.Kind != geo.JunctionNode || s.entrance[j] || s.InRun(j) {
+		return false
+	}
+	k, ok := s.junction[j]
+	return !ok || s.carried == nil || !s.carried[k]
 }

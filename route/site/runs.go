@@ -51,6 +51,30 @@ func runInterior(net *geo.Network, junction map[string]int, entrance map[string]
 	return in
 }
 
+// carriedOn marks the plain junctions (no structure, not an entrance) where exactly two span
+// ends meet, of two different proposed spans of one pathway type: new pathway drawn in two
+// pieces carries on there, a duct inside its run (runInterior), a direct-buried cable, tunnel,
+// tray or aerial span simply on, with nothing to join and no handhole to add (JoinsNetwork).
+func carriedOn(net *geo.Network, junction map[string]int, entrance map[string]bool) []bool {
+	ends := make([]int, len(net.Junctions))
+	types := make([][]string, len(net.Junctions)) // the types of the proposed spans ending there
+	for i := range net.Spans {
+		sp := &net.Spans[i]
+		for _, j := range [2]string{sp.From, sp.To} {
+			k := junction[j]
+			ends[k]++
+			if sp.Status == geo.StatusProposed && sp.From != sp.To {
+				types[k] = append(types[k], sp.Type)
+			}
+		}
+	}
+	in := make([]bool, len(net.Junctions))
+	for k, jn := range net.Junctions {
+		in[k] = jn.Kind == geo.JunctionNode && !entrance[jn.ID] && ends[k] == 2 && len(types[k]) == 2 && types[k][0] == types[k][1]
+	}
+	return in
+}
+
 // InRun reports whether junction j lies inside a run of new construction (NewRun): no
 // handhole is added there for the new pathway joining, it carries on.
 func (s *Site) InRun(j string) bool {

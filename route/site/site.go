@@ -29,6 +29,7 @@ type Site struct {
 	spanPart []int           // the same by spans alone (SpanPart)
 	entrance map[string]bool // junction IDs of every entrance and access (JoinsNetwork)
 	interior []bool          // by junction index: inside a run of new construction (InRun)
+	carried  []bool          // by junction index: new pathway of one type carried on (JoinsNetwork)
 	dist     sync.Map        // building ID → map[string]float64, see distancesFrom
 	adjOnce  sync.Once
 	adj      *adjacency // junctions joined by spans (spanAdjacency)
@@ -140,6 +141,7 @@ func NewSite(c *geo.Campus, net *geo.Network) *Site {
 		s.entrance[e.Junction] = true
 	}
 	s.interior = runInterior(net, s.junction, s.entrance)
+	s.carried = carriedOn(net, s.junction, s.entrance)
 	return s
 }
 
