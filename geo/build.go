@@ -877,6 +877,25 @@ func (b *builder) clean(pts orb.LineString) orb.LineString {
 	return out
 }
 
+// endFirst reports whether a line from a to z is numbered from z: from its west end when it
+// runs more east-west than north-south (its ends' longitudes apart, scaled by the cosine of
+// the latitude, at least their latitudes), else from its south end. Which axis decides
+// follows the line's bearing, not a coordinate that another CRS moves by a hair: a street
+// drawn due north in a projected CRS is a little off north in longitude and latitude, and
+// numbering it by the longitude of its ends (as before) renamed its pieces when the campus
+// was reprojected (TestDemoReprojectedPlansSameRoutes).
+func endFirst(z, a orb.Point) bool {
+	dx := math.Abs(z[0]-a[0]) * math.Cos((a[1]+z[1])/2*math.Pi/180)
+	dy := math.Abs(z[1] - a[1])
+	if dx >= dy {
+		return lessLL(z, a)
+	}
+	if z[1] != a[1] {
+		return z[1] < a[1]
+	}
+	return z[0] < a[0]
+}
+
 func lessLL(a, b orb.Point) bool {
 	if a[0] != b[0] {
 		return a[0] < b[0]
@@ -980,10 +999,10 @@ func (b *builder) number() {
 }
 
 // pieceOrder lists the pieces in the order their pathways number them (Span.ID's piece
-// number): whatever the direction a line is drawn in, its pieces from the end that comes
-// first west to east, then south to north (a closed line from that point toward the nearer
-// such neighbour), and a pathway's lines by those ends; so reversing a line, or the lines of
-// a MultiLineString, renames no span.
+// number): whatever the direction a line is drawn in, its pieces from its west end when the
+// line runs more east-west than north-south, else from its south end (endFirst; a closed line
+// from its first point toward the neighbour endFirst puts first), and a pathway's lines by
+// those ends; so reversing a line, or the lines of a MultiLineString, renames no span.
 func (b *builder) pieceOrder() []int {
 	type key struct {
 		first, last orb.Point // the line's ends, in the order it is numbered
@@ -995,9 +1014,9 @@ func (b *builder) pieceOrder() []int {
 	for i, pc := range b.pieces {
 		p := &b.parts[pc.part]
 		a, z := p.ll[0], p.ll[len(p.ll)-1]
-		flip := lessLL(z, a)
+		flip := endFirst(z, a)
 		if a == z && len(p.ll) > 2 {
-			flip = lessLL(p.ll[len(p.ll)-2], p.ll[1])
+			flip = endFirst(p.ll[len(p.ll)-2], p.ll[1])
 		}
 		pos := along[pc.part]
 		along[pc.part]++

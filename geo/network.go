@@ -39,7 +39,7 @@ type Junction struct {
 
 // Span is a piece of one pathway between two junctions with no junction inside it.
 type Span struct {
-	ID         string // PathwayID when the pathway is one span, else PathwayID + "/" + 1-based piece number, from the line's west end (pieceOrder)
+	ID         string // PathwayID when the pathway is one span, else PathwayID + "/" + 1-based piece number, from the line's west or south end (pieceOrder)
 	PathwayID  string
 	From, To   string // junction IDs
 	LengthM    float64
