@@ -8,6 +8,7 @@ import (
 	"slices"
 	"sort"
 	"strconv"
+	"strings"
 
 	"spanwright/geo"
 	"spanwright/media"
@@ -77,6 +78,20 @@ type PullSection struct {
 	// Over lists the limits it goes over (why not within rating) as numbers, written in an
 	// output's units by install.Why.
 	Over []install.Excess
+	// Lateral is the entrance whose counted lateral the section pulls, from the building to
+	// where it ends in a structure or taps a duct (site.Site.Tap): a pull of its own, with no
+	// span; "" for a section along spans. At the served end it starts at −LengthM, before the
+	// first span; at the cross-connect's end where the spans end.
+	Lateral string
+}
+
+// SpansText is what the section runs along, for the outputs: its span IDs, or "lateral of"
+// and the entrance.
+func (p PullSection) SpansText() string {
+	if p.Lateral != "" {
+		return "lateral of " + p.Lateral
+	}
+	return strings.Join(p.Spans, " ")
 }
 
 // PullPoint is one end of a pull section: a structure, junction or building by its ID, or a
@@ -156,6 +171,9 @@ type Construction struct {
 	// Entrances are the building entrances the plan uses (routing.Routed.Entrances); their
 	// counted laterals are in TrenchM or BoreM and AddedDuctM.
 	Entrances []routing.EntranceUse
+	// TapJunctions are the handholes built where those laterals tap the side of a duct
+	// (site.Site.Tap), one per entrance, in the order of Entrances, by junction ID.
+	TapJunctions []string
 }
 
 // RunHandhole is a handhole along new construction: on a span, AtM metres from its From end.
@@ -323,13 +341,16 @@ func (r *run) pullPlan(i int) legPulls {
 		}
 		return rm
 	}
+	// A counted lateral that ends in a structure or taps a duct (where the plan builds a
+	// handhole) is pulled on its own: the spans' pulls start and end there, not at the building.
+	latTo, latFrom := r.lateralPull(leg.Link.To, leg.EntranceTo), r.lateralPull(leg.Link.From, leg.EntranceFrom)
 	name := func(x float64) (at PullPoint, key string) {
 		for j, c := range cum {
 			if math.Abs(x-c) < 0.01 {
-				switch j {
-				case 0:
+				switch {
+				case j == 0 && latTo.ID == "":
 					return PullPoint{ID: leg.Link.To}, "B:" + leg.Link.To
-				case len(cum) - 1:
+				case j == len(cum)-1 && latFrom.ID == "":
 					return PullPoint{ID: leg.Link.From}, "B:" + leg.Link.From
 				}
 				return PullPoint{ID: juncs[j]}, "J:" + juncs[j]
@@ -344,6 +365,59 @@ func (r *run) pullPlan(i int) legPulls {
 		return PullPoint{Span: spans[j].ID, AtM: off}, fmt.Sprintf("S:%s@%.0f", spans[j].ID, off)
 	}
 	seq := 0
+	// lateral pulls the counted lateral of entrance en, from building b to junction at, as
+	// straight duct (its turn into the duct or structure is taken there), from start along
+	// the leg.
+	lateral := func(en geo.Entry, b string, start float64, served bool) {
+		plan, err := s.Pulls.Sections([]install.Step{{Kind: install.KindStraight, LengthM: en.LateralM}}, nil, spec)
+		if err != nil {
+			e.warnings = append(e.warnings, fmt.Sprintf("%s %s: no pulling plan for the lateral of %s: %v", leg.Link.ID, leg.Name, en.ID, err))
+			return
+		}
+		at := func(x float64) (PullPoint, string) { // x metres from the building
+			switch {
+			case x < 0.01:
+				return PullPoint{ID: b}, "B:" + b
+			case x > en.LateralM-0.01:
+				return PullPoint{ID: en.Junction}, "J:" + en.Junction
+			}
+			return PullPoint{Span: "lateral of " + en.ID, AtM: x}, fmt.Sprintf("L:%s@%.0f", en.ID, x)
+		}
+		for _, sec := range plan.Sections {
+			seq++
+			ps := PullSection{Leg: i, Seq: seq, LengthM: sec.LengthM, TensionN: sec.MaxTensionN, RatedN: spec.MaxTensionN,
+				SWBPNPerM: sec.MaxSWBPNPerM, AddedFrom: sec.StartAdded, AddedTo: sec.EndAdded, WithinRating: sec.WithinRating,
+				Over: sec.Over, Lateral: en.ID}
+			var fromKey, toKey string
+			if served { // travel order: from the building to the junction
+				ps.StartM = start + sec.StartM
+				ps.From, fromKey = at(sec.StartM)
+				ps.To, toKey = at(sec.StartM + sec.LengthM)
+			} else { // from the junction to the building
+				ps.StartM = start + sec.StartM
+				ps.From, fromKey = at(en.LateralM - sec.StartM)
+				ps.To, toKey = at(en.LateralM - sec.StartM - sec.LengthM)
+			}
+			if sec.StartAdded {
+				e.added = append(e.added, fromKey)
+			}
+			if sec.EndAdded {
+				e.added = append(e.added, toKey)
+			}
+			ps.FeedAt, ps.OtherN = ps.From, sec.Reverse.MaxTensionN
+			if sec.Best == install.Reverse {
+				ps.FeedAt, ps.OtherN = ps.To, sec.Forward.MaxTensionN
+			}
+			if !sec.WithinRating {
+				e.warnings = append(e.warnings, fmt.Sprintf("%s %s: pull %d from %s to %s: %s; reroute or add a structure",
+					leg.Link.ID, leg.Name, seq, ps.From, ps.To, sec.Reason()))
+			}
+			e.sections = append(e.sections, ps)
+		}
+	}
+	if latTo.ID != "" {
+		lateral(latTo, leg.Link.To, -latTo.LateralM, true)
+	}
 	for j := 0; j < len(spans); {
 		if spans[j].Type != geo.TypeDuct {
 			j++
@@ -455,10 +529,25 @@ func (r *run) pullPlan(i int) legPulls {
 			e.sections = append(e.sections, ps)
 		}
 	}
+	if latFrom.ID != "" {
+		lateral(latFrom, leg.Link.From, cum[len(cum)-1], false)
+	}
 	if tight != "" {
 		e.warnings = append(e.warnings, tight)
 	}
 	return e
+}
+
+// lateralPull is the entrance id of building b when its counted lateral is pulled on its own
+// (it ends in a structure, or taps a duct where the plan builds a handhole); the zero Entry
+// when it is not (no lateral, or one that carries a duct on from its dangling end).
+func (r *run) lateralPull(b, id string) geo.Entry {
+	for _, en := range r.Site.Net.EntrancesOf(b) {
+		if en.ID == id && en.LateralM > 0 && (r.Site.IsStructure(en.Junction) || r.Site.TapOf(en)) {
+			return en
+		}
+	}
+	return geo.Entry{}
 }
 
 // ductFill checks every duct of every span of limited capacity that carries cable, with
@@ -709,6 +798,9 @@ func (r *run) construction() {
 		c.AddedDuctM += float64(max(design.NewDucts, 1)) * en.LateralM
 		c.LateralM += en.LateralM
 		r.newFrom[keyAddedDuct] = append(r.newFrom[keyAddedDuct], fromEntrance(en))
+		if en.Tap != "" {
+			c.TapJunctions = append(c.TapJunctions, en.Tap)
+		}
 	}
 	// The handholes are the routing's (routing.Routed.Handholes): the optimizer's charges it
 	// paid, so the bill counts what the model counted.
@@ -791,7 +883,7 @@ func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg, ru
 		add(media.CategoryMaterial, fmt.Sprintf("splice tray, %d splices", p.TraySplices()), media.UnitEach, joins*float64(p.TraysFor(t.Size.Count)), media.PriceKey{Item: media.PriceSpliceTray})
 		work("splice fibre, mid-span joins", media.UnitEach, joins*float64(t.Size.Count), media.PriceKey{Item: media.RateSplice})
 	}
-	// Along the route by pathway type; then risers, coils and entrance loops in tray,
+	// Along the route by pathway type; then risers, coils and entrance loops inside the buildings,
 	// counted laterals and structure loops in duct.
 	var alongM [len(items.PathwayTypes)]float64
 	for _, st := range l.Steps {
@@ -818,7 +910,8 @@ func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg, ru
 			entered++
 		}
 	}
-	added := float64(len(l.Turns))
+	// A handhole where a lateral at either end taps a duct is a pull point too (items.TapCrew).
+	added := float64(len(l.Turns) + len(s.LegTaps(l.Link.To, l.EntranceTo, l.Link.From, l.EntranceFrom)))
 	for _, st := range l.Steps {
 		sp, _ := s.Net.Span(st.SpanID)
 		added += float64(len(runHH[st.SpanID])) + items.JoinEnds(s, &sp)
@@ -908,12 +1001,21 @@ func (r *run) quantities() {
 		}
 		e.Quantities = append(e.Quantities, one(items.RunHandholes(len(con.RunHandholes)), on))
 	}
+	if len(con.TapJunctions) > 0 {
+		var at []string
+		for _, en := range con.Entrances {
+			if en.Tap != "" {
+				at = append(at, fromEntrance(en))
+			}
+		}
+		e.Quantities = append(e.Quantities, one(items.TapHandholes(len(con.TapJunctions)), at))
+	}
 	if p.Has(media.PriceEntrance) && len(con.Entrances) > 0 {
 		var at []string
 		for _, en := range con.Entrances {
 			at = append(at, fromEntrance(en))
 		}
-		q := items.Entrance(p, design, 0)[0]
+		q := items.Entrance(p, design, 0, false)[0]
 		q.Amount = float64(len(con.Entrances))
 		e.Quantities = append(e.Quantities, one(q, at))
 	}

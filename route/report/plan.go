@@ -990,7 +990,7 @@ func pullRows(r *route.Result, opt Options) ([]pullRow, int, listed) {
 		if p.AddedTo {
 			added = append(added, "end")
 		}
-		row := pullRow{Link: l.Link.ID, Leg: l.Name, Seq: p.Seq, From: p.From.Text(opt.lengthU), To: p.To.Text(opt.lengthU), Spans: strings.Join(p.Spans, " "),
+		row := pullRow{Link: l.Link.ID, Leg: l.Name, Seq: p.Seq, From: p.From.Text(opt.lengthU), To: p.To.Text(opt.lengthU), Spans: p.SpansText(),
 			Length: opt.length(p.LengthM), Bends: strconv.FormatFloat(p.BendDeg, 'f', 0, 64) + "°", Feed: p.FeedAt.Text(opt.lengthU),
 			Tension: force(p.TensionN), Other: force(p.OtherN), Rated: force(p.RatedN),
 			BarW: num(math.Min(100*ratio(p), 100)), Pct: pct(ratio(p)), SWBP: sidewall(p.SWBPNPerM),

@@ -22,6 +22,7 @@ type CheckReport struct {
 	// ThroughOnly lists the buildings that reach the hub only through another building routes
 	// may not cross (Site.ThroughOnly).
 	ThroughOnly []string
+	Through     []string // for each of ThroughOnly, in its order, why and what would serve it (Site.Through)
 	// Entrances lists every building's entrances, by building then entrance ID.
 	Entrances []geo.Entry
 	// Turns lists the junctions where a turn from one pathway into another needs a structure
@@ -96,6 +97,9 @@ func (s *Site) Check(hub string) CheckReport {
 			r.CutOff = append(r.CutOff, s.CutOff(b, hub))
 		}
 		r.ThroughOnly = s.ThroughOnly(hub)
+		for _, b := range r.ThroughOnly {
+			r.Through = append(r.Through, s.Through(b, hub))
+		}
 	}
 	r.Entrances = s.Net.Entrances
 	r.Turns = s.TurnsNeedingStructure()
