@@ -154,7 +154,7 @@ func TestBadInput(t *testing.T) {
 		// cannot route HQ-BACK (transit: true on MID would not help), so check says so, with
 		// what would serve it, and exits 3 as plan does.
 		{"check names through-only", []string{"check", "testdata/plans/through.yaml"}, exitInfeasible, []string{
-			"hub         HQ: every building is joined to it, but 1 building reaches it only through another building (below)\n",
+			"hub         HQ: 1 building reaches it only through another building (below); every other building can reach it\n",
 			"  no route: building BACK reaches HQ only through MID: ",
 			"transit: true on MID would not do, its pathways do not meet at one point inside it",
 			"or serve it from MID (role ic, and a link from it)",

@@ -78,20 +78,26 @@ type PullSection struct {
 	// Over lists the limits it goes over (why not within rating) as numbers, written in an
 	// output's units by install.Why.
 	Over []install.Excess
-	// Lateral is the entrance whose counted lateral the section pulls, from the building to
-	// where it ends in a structure or taps a duct (site.Site.Tap): a pull of its own, with no
-	// span; "" for a section along spans. At the served end it starts at −LengthM, before the
-	// first span; at the cross-connect's end where the spans end.
+	// Lateral is the entrance whose counted lateral the section pulls: from the building to
+	// where it ends in a structure or taps a duct (site.Site.Tap), a pull of its own with no
+	// span; or, where it carries a duct on from the duct's dangling end, as part of the pull
+	// along that duct with the turn between them. "" for a section along spans alone. A
+	// lateral at the served end lies before the first span (StartM from minus its length).
 	Lateral string
 }
 
-// SpansText is what the section runs along, for the outputs: its span IDs, or "lateral of"
-// and the entrance.
+// SpansText is what the section runs along, for the outputs, in travel order: its span IDs,
+// and "lateral of" and the entrance for a lateral in it.
 func (p PullSection) SpansText() string {
-	if p.Lateral != "" {
+	switch {
+	case p.Lateral == "":
+		return strings.Join(p.Spans, " ")
+	case len(p.Spans) == 0:
 		return "lateral of " + p.Lateral
+	case p.StartM < 0: // at the served end, before the spans
+		return "lateral of " + p.Lateral + " " + strings.Join(p.Spans, " ")
 	}
-	return strings.Join(p.Spans, " ")
+	return strings.Join(p.Spans, " ") + " lateral of " + p.Lateral
 }
 
 // PullPoint is one end of a pull section: a structure, junction or building by its ID, or a
@@ -344,13 +350,35 @@ func (r *run) pullPlan(i int) legPulls {
 	// A counted lateral that ends in a structure or taps a duct (where the plan builds a
 	// handhole) is pulled on its own: the spans' pulls start and end there, not at the building.
 	latTo, latFrom := r.lateralPull(leg.Link.To, leg.EntranceTo), r.lateralPull(leg.Link.From, leg.EntranceFrom)
+	// A lateral that carries a duct on from its dangling end is pulled with that duct: before
+	// the first span (carryTo) or after the last (carryFrom), with the turn between them.
+	var carryTo, carryFrom geo.Entry
+	if en, ok := r.entryOf(leg.Link.To, leg.EntranceTo); ok && en.LateralM > 0 && latTo.ID == "" && len(spans) > 0 && spans[0].Type == geo.TypeDuct {
+		carryTo = en
+	}
+	if en, ok := r.entryOf(leg.Link.From, leg.EntranceFrom); ok && en.LateralM > 0 && latFrom.ID == "" && len(spans) > 0 && spans[len(spans)-1].Type == geo.TypeDuct {
+		carryFrom = en
+	}
+	endM := cum[len(cum)-1]
 	name := func(x float64) (at PullPoint, key string) {
+		switch { // in a carried lateral: its building, or a handhole the plan adds along it
+		case carryTo.ID != "" && x < -0.01:
+			if off := x + carryTo.LateralM; off > 0.01 {
+				return PullPoint{Span: "lateral of " + carryTo.ID, AtM: off}, fmt.Sprintf("L:%s@%.0f", carryTo.ID, off)
+			}
+			return PullPoint{ID: leg.Link.To}, "B:" + leg.Link.To
+		case carryFrom.ID != "" && x > endM+0.01:
+			if off := endM + carryFrom.LateralM - x; off > 0.01 {
+				return PullPoint{Span: "lateral of " + carryFrom.ID, AtM: off}, fmt.Sprintf("L:%s@%.0f", carryFrom.ID, off)
+			}
+			return PullPoint{ID: leg.Link.From}, "B:" + leg.Link.From
+		}
 		for j, c := range cum {
 			if math.Abs(x-c) < 0.01 {
 				switch {
-				case j == 0 && latTo.ID == "":
+				case j == 0 && latTo.ID == "" && carryTo.ID == "":
 					return PullPoint{ID: leg.Link.To}, "B:" + leg.Link.To
-				case j == len(cum)-1 && latFrom.ID == "":
+				case j == len(cum)-1 && latFrom.ID == "" && carryFrom.ID == "":
 					return PullPoint{ID: leg.Link.From}, "B:" + leg.Link.From
 				}
 				return PullPoint{ID: juncs[j]}, "J:" + juncs[j]
@@ -429,6 +457,14 @@ func (r *run) pullPlan(i int) legPulls {
 		// atPoint: the cable is at a pull point, where a bend is taken inside the structure
 		// (site.NewRuns places handholes at bends so).
 		atPoint := func() bool { return len(points) > 0 && points[len(points)-1] == len(steps) }
+		pre := 0.0 // metres of carried lateral before the group's first span
+		if first == 0 && carryTo.ID != "" {
+			pre = carryTo.LateralM
+			steps = append(steps, install.Step{Kind: install.KindStraight, LengthM: pre})
+			if turn := s.Net.LateralTurnDeg(carryTo.Lateral, leg.Steps[0], true); turn > 0 {
+				steps = append(steps, install.Step{Kind: install.KindBend, AngleDeg: turn, RadiusM: radius(&spans[0])})
+			}
+		}
 		for ; j < len(spans) && spans[j].Type == geo.TypeDuct; j++ {
 			sp := &spans[j]
 			rm := radius(sp)
@@ -487,6 +523,12 @@ func (r *run) pullPlan(i int) legPulls {
 				travelM += segM
 			}
 		}
+		if j == len(spans) && carryFrom.ID != "" {
+			if turn := s.Net.LateralTurnDeg(carryFrom.Lateral, leg.Steps[j-1], false); turn > 0 && !atPoint() {
+				steps = append(steps, install.Step{Kind: install.KindBend, AngleDeg: turn, RadiusM: radius(&spans[j-1])})
+			}
+			steps = append(steps, install.Step{Kind: install.KindStraight, LengthM: carryFrom.LateralM})
+		}
 		plan, err := s.Pulls.Sections(steps, points, spec)
 		if err != nil {
 			e.warnings = append(e.warnings, fmt.Sprintf("%s %s: no pulling plan: %v", leg.Link.ID, leg.Name, err))
@@ -494,7 +536,7 @@ func (r *run) pullPlan(i int) legPulls {
 		}
 		for _, sec := range plan.Sections {
 			seq++
-			start := cum[first] + sec.StartM
+			start := cum[first] + sec.StartM - pre
 			end := start + sec.LengthM
 			ps := PullSection{Leg: i, Seq: seq, StartM: start, LengthM: sec.LengthM, BendDeg: sec.BendDeg,
 				TensionN: sec.MaxTensionN, RatedN: spec.MaxTensionN, SWBPNPerM: sec.MaxSWBPNPerM,
@@ -522,6 +564,12 @@ func (r *run) pullPlan(i int) legPulls {
 					ps.Spans = append(ps.Spans, spans[q].ID)
 				}
 			}
+			switch {
+			case pre > 0 && start < -0.01:
+				ps.Lateral = carryTo.ID
+			case j == len(spans) && carryFrom.ID != "" && end > endM+0.01:
+				ps.Lateral = carryFrom.ID
+			}
 			if !sec.WithinRating {
 				e.warnings = append(e.warnings, fmt.Sprintf("%s %s: pull %d from %s to %s: %s; reroute or add a structure",
 					leg.Link.ID, leg.Name, seq, ps.From, ps.To, sec.Reason()))
@@ -536,6 +584,16 @@ func (r *run) pullPlan(i int) legPulls {
 		e.warnings = append(e.warnings, tight)
 	}
 	return e
+}
+
+// entryOf is building b's entrance id.
+func (r *run) entryOf(b, id string) (geo.Entry, bool) {
+	for _, en := range r.Site.Net.EntrancesOf(b) {
+		if en.ID == id {
+			return en, true
+		}
+	}
+	return geo.Entry{}, false
 }
 
 // lateralPull is the entrance id of building b when its counted lateral is pulled on its own

@@ -922,3 +922,60 @@ func TestLateralTap(t *testing.T) {
 		t.Errorf("crew entries: %v, want %v", got, entries)
 	}
 }
+
+// TestLateralCarriesDuct: duct E runs from inside hub A at (0, 0) east to (100, 0) and ends
+// there, at no structure; U (at 100, 30) is reached by a counted lateral of 20 m south to E's
+// end, where it carries E on with a 90° turn. No handhole is added; the one pull from U to A
+// takes the lateral, its turn and E (TIA-569 counts that bend towards the 180° between pull
+// points), 120 m with 90° of bends (lengths within 0.5 m: the pull grid's metres are geodesic).
+func TestLateralCarriesDuct(t *testing.T) {
+	t.Parallel()
+	e := fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":"E","type":"duct"},"geometry":{"type":"LineString","coordinates":[[%.7f,%.7f],[%.7f,%.7f]]}}`,
+		testsite.X(0), testsite.Y(0), testsite.X(100), testsite.Y(0))
+	campus := `{"type":"FeatureCollection","features":[` + strings.Join([]string{testsite.Box("A", "mc", 0, 0), testsite.Box("U", "", 100, 30), e}, ",") + `]}`
+	r, err := testplan.PullSolveJSON(t, campus, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if n := len(r.Estimate.Construction.TapJunctions); n != 0 {
+		t.Errorf("%d tap handholes, want none", n)
+	}
+	_, leg := testplan.LegOf(t, r, "A-U")
+	if len(r.Estimate.Pulls) != 1 {
+		t.Fatalf("pulls %+v, want one", r.Estimate.Pulls)
+	}
+	p := r.Estimate.Pulls[0]
+	if p.From.ID != "U" || p.To.ID != "A" || math.Abs(p.LengthM-120) > 0.5 || math.Abs(p.BendDeg-90) > 0.5 || p.Lateral != leg.EntranceTo {
+		t.Errorf("pull %+v, want U to A, 120 m, 90° of bends, with U's lateral", p)
+	}
+	if got, want := p.SpansText(), "lateral of "+leg.EntranceTo+" E"; got != want {
+		t.Errorf("pull runs along %q, want %q", got, want)
+	}
+	if math.Abs(p.StartM+20) > 0.5 {
+		t.Errorf("pull starts at %.2f m, want -20 (the lateral before the first span)", p.StartM)
+	}
+}
+
+// TestLateralCarriesDuctAtHub is TestLateralCarriesDuct with U as the hub: the lateral is at
+// the cross-connect's end, after E, and the pull from A to U takes E, the turn and the lateral.
+func TestLateralCarriesDuctAtHub(t *testing.T) {
+	t.Parallel()
+	e := fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":"E","type":"duct"},"geometry":{"type":"LineString","coordinates":[[%.7f,%.7f],[%.7f,%.7f]]}}`,
+		testsite.X(0), testsite.Y(0), testsite.X(100), testsite.Y(0))
+	campus := `{"type":"FeatureCollection","features":[` + strings.Join([]string{testsite.Box("A", "", 0, 0), testsite.Box("U", "mc", 100, 30), e}, ",") + `]}`
+	r, err := testplan.PullSolveJSON(t, campus, func(p *plan.Plan) { p.Hub = "U" })
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, leg := testplan.LegOf(t, r, "U-A")
+	if len(r.Estimate.Pulls) != 1 {
+		t.Fatalf("pulls %+v, want one", r.Estimate.Pulls)
+	}
+	p := r.Estimate.Pulls[0]
+	if p.From.ID != "A" || p.To.ID != "U" || math.Abs(p.LengthM-120) > 0.5 || math.Abs(p.BendDeg-90) > 0.5 || p.Lateral != leg.EntranceFrom {
+		t.Errorf("pull %+v, want A to U, 120 m, 90° of bends, with U's lateral", p)
+	}
+	if got, want := p.SpansText(), "E lateral of "+leg.EntranceFrom; got != want {
+		t.Errorf("pull runs along %q, want %q", got, want)
+	}
+}

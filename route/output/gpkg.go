@@ -330,6 +330,10 @@ func planLayers(ctx context.Context, r *route.Result) ([]gpkgout.Layer, error) {
 			add(LayerStructures, j.Point, p.junction, nil, nil, PurposePull, ListText(p.links))
 			continue
 		}
+		if p.lateral {
+			add(LayerStructures, p.lat.PointAt(p.offM), nil, p.span, round1(p.offM), PurposePull, ListText(p.links))
+			continue
+		}
 		sp, ok := net.Span(p.span)
 		if !ok {
 			return nil, fmt.Errorf("pull point on %s: not a span of the network", p.span)
@@ -382,6 +386,10 @@ type pullPoint struct {
 	junction, span string
 	offM           float64
 	links          []string
+	// lateral: the point is on a counted lateral (drawn as lat), offM metres from its
+	// building; span is then "lateral of" and the entrance.
+	lateral bool
+	lat     geo.Span
 }
 
 // addedPullPoints places the intermediate pull points of the estimate's pulls (the ends of
@@ -426,7 +434,23 @@ func addedPullPoints(r *route.Result) []pullPoint {
 			}
 			var k key
 			pp := pullPoint{}
-			if j := slices.IndexFunc(cum, func(c float64) bool { return math.Abs(end.x-c) < 0.01 }); j > 0 && j < len(cum)-1 {
+			if end.x < -0.01 || end.x > cum[len(cum)-1]+0.01 {
+				// On a counted lateral pulled with the leg (estimate.PullSection.Lateral): the
+				// estimate named it by the lateral and metres from its building.
+				pt, b := p.From, l.Link.To
+				if end.x != p.StartM {
+					pt = p.To
+				}
+				if end.x > 0 {
+					b = l.Link.From
+				}
+				for _, en := range r.Site.Net.EntrancesOf(b) {
+					if en.ID == p.Lateral {
+						pp.lateral, pp.lat = true, geo.Span{Line: en.Lateral, LengthM: en.LateralM}
+					}
+				}
+				k, pp.span, pp.offM = key{span: pt.Span, m: math.Round(pt.AtM)}, pt.Span, pt.AtM
+			} else if j := slices.IndexFunc(cum, func(c float64) bool { return math.Abs(end.x-c) < 0.01 }); j > 0 && j < len(cum)-1 {
 				k, pp.junction = key{junction: juncs[j]}, juncs[j]
 			} else if j < 0 {
 				q, _ := slices.BinarySearch(cum, end.x)

@@ -854,7 +854,7 @@ func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
 	case len(r.Unreachable) == 0 && len(r.ThroughOnly) == 0:
 		fmt.Fprintf(w, "hub         %s: every building can reach it\n", t(r.Hub))
 	case len(r.Unreachable) == 0:
-		fmt.Fprintf(w, "hub         %s: every building is joined to it, but %s it only through another building (below)\n", t(r.Hub),
+		fmt.Fprintf(w, "hub         %s: %s it only through another building (below); every other building can reach it\n", t(r.Hub),
 			Counted(len(r.ThroughOnly), "building reaches", "buildings reach"))
 	default:
 		fmt.Fprintf(w, "hub         %s: %s cannot reach it: %s\n", t(r.Hub), Counted(len(r.Unreachable), "building", "buildings"), escape.TerminalList(r.Unreachable))
