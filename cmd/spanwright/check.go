@@ -65,6 +65,13 @@ func runCheck(ctx context.Context, args []string, db string, maxBytes int64, opt
 		return err
 	}
 	rep := st.Check(hub)
+	if p != nil && rep.Hub != "" && len(rep.ThroughOnly) > 0 {
+		// Of the buildings reached only through another, those the plan's links meet: one
+		// served from an ic it reaches directly is fine. Bad links are reported below.
+		if links, _, errs := st.Links(p, rep.Hub); len(errs) == 0 {
+			st.ThroughFor(&rep, links)
+		}
+	}
 	if err := output.PrintCheck(w, rep, opt); err != nil {
 		return err
 	}

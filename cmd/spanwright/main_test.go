@@ -159,6 +159,11 @@ func TestBadInput(t *testing.T) {
 			"transit: true on MID would not do, its pathways do not meet at one point inside it",
 			"or serve it from MID (role ic, and a link from it)",
 			"1 building reaches the hub HQ only through another building routes may not cross: [BACK]"}},
+		// The same campus with BACK served from MID, which it reaches directly: plan routes
+		// MID-BACK, so check lists BACK as served that way and exits 0.
+		{"check through served from MID", []string{"check", "testdata/plans/through_ic.yaml"}, exitOK, []string{
+			"hub         HQ: every building can reach its cross-connect in the plan; 1 building reaches the hub only through another building (below)\n",
+			"through     1 building reaches the hub only through another building, and the plan serves it from a cross-connect it reaches: [BACK]\n"}},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {

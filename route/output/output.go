@@ -851,8 +851,11 @@ func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
 	switch {
 	case r.Hub == "":
 		fmt.Fprintln(w, "hub         none (no building has role mc and none was named)")
-	case len(r.Unreachable) == 0 && len(r.ThroughOnly) == 0:
+	case len(r.Unreachable) == 0 && len(r.ThroughOnly) == 0 && len(r.Served) == 0:
 		fmt.Fprintf(w, "hub         %s: every building can reach it\n", t(r.Hub))
+	case len(r.Unreachable) == 0 && len(r.ThroughOnly) == 0:
+		fmt.Fprintf(w, "hub         %s: every building can reach its cross-connect in the plan; %s the hub only through another building (below)\n", t(r.Hub),
+			Counted(len(r.Served), "building reaches", "buildings reach"))
 	case len(r.Unreachable) == 0:
 		fmt.Fprintf(w, "hub         %s: %s it only through another building (below); every other building can reach it\n", t(r.Hub),
 			Counted(len(r.ThroughOnly), "building reaches", "buildings reach"))
@@ -868,6 +871,10 @@ func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
 		for _, why := range r.Through {
 			fmt.Fprintf(w, "  no route: %s\n", t(InUnits(opt, why)))
 		}
+	}
+	if len(r.Served) > 0 {
+		fmt.Fprintf(w, "through     %s the hub only through another building, and the plan serves it from a cross-connect it reaches: %s\n",
+			Counted(len(r.Served), "building reaches", "buildings reach"), escape.TerminalList(r.Served))
 	}
 	// The entrances, one line per building that has more than one or a declared one.
 	var multi []string
