@@ -835,7 +835,7 @@ func legendOf(r *route.Result, med map[string]mediumInfo, order []string, m mapV
 		lg.Structures = append(lg.Structures, legendItem{Shape: structureShape(t), Class: "st", Label: t})
 	}
 	if len(m.Turns) > 0 {
-		lg.Structures = append(lg.Structures, legendItem{Shape: "square", Class: "st turn", Label: "handhole to add (a route turns between pathways, or new pathway joins)"})
+		lg.Structures = append(lg.Structures, legendItem{Shape: "square", Class: "st turn", Label: "handhole to add (a route turns between pathways, new pathway joins, or a lateral taps a duct)"})
 	}
 	if len(m.Entrances) > 0 {
 		lg.Structures = append(lg.Structures, legendItem{Shape: "dot", Class: "ent", Label: "building entrance"})
