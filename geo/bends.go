@@ -67,3 +67,28 @@ func turnAt(a, p, c orb.Point) float64 {
 	}
 	return deflectionDeg(u, vec{}, v)
 }
+
+// LateralTurnDeg returns the deflection in degrees where a counted lateral (building side
+// first, Access.Lateral) meets the span of step b at the junction where the lateral ends:
+// into b when b starts there (into is true), or out of b into the lateral, towards the
+// building, when b ends there. As TurnDeg, on the last segments; 0 when either has fewer than
+// two points.
+func (n *Network) LateralTurnDeg(lateral orb.LineString, b Step, into bool) float64 {
+	sb, ok := n.Span(b.SpanID)
+	nl, lb := len(lateral), len(sb.Line)
+	if !ok || nl < 2 || lb < 2 {
+		return 0
+	}
+	if into {
+		next := sb.Line[1]
+		if b.Reverse {
+			next = sb.Line[lb-2]
+		}
+		return turnAt(lateral[nl-2], lateral[nl-1], next)
+	}
+	prev := sb.Line[lb-2]
+	if b.Reverse {
+		prev = sb.Line[1]
+	}
+	return turnAt(prev, lateral[nl-1], lateral[nl-2])
+}

@@ -101,7 +101,7 @@ func routeDependent(pb *media.PriceBook, item string, price, rate media.PriceKey
 		return true
 	case media.PriceStructure:
 		return item == "handhole where new pathway joins the network" || item == "handhole where a route turns between pathways" ||
-			item == "handhole along new construction"
+			item == "handhole along new construction" || item == "handhole where a lateral taps a duct"
 	case media.PriceEntrance, media.PriceFirestop:
 		return true
 	case media.PriceCrew:
@@ -116,7 +116,7 @@ func routeDependent(pb *media.PriceBook, item string, price, rate media.PriceKey
 // but not their rate keys: the pulls and the innerduct placing are pulls.
 func lineRouteDependent(pb *media.PriceBook, l media.BOMLine) bool {
 	if l.Unit == media.UnitHour {
-		return strings.HasPrefix(l.Item, "pull cable in ") || l.Item == "place innerduct in duct"
+		return strings.HasPrefix(l.Item, "pull cable in ") || l.Item == "place innerduct in duct" || l.Item == items.InsideItem
 	}
 	return routeDependent(pb, l.Item, l.Price, media.PriceKey{})
 }
@@ -372,7 +372,7 @@ func objectiveOf(r *route.Result, prob *optimize.Problem, pb *media.PriceBook, l
 	// with one the constant part of the objective (routing.Routed.ConstantCents).
 	for _, en := range r.Estimate.Construction.Entrances {
 		if en.Single {
-			for _, q := range items.Entrance(pb, r.Plan.Design, en.LateralM, en.Built) {
+			for _, q := range items.Entrance(pb, r.Plan.Design, en.LateralM, en.Built, en.Tap != "") {
 				c += pb.Cents(q)
 			}
 			for _, q := range items.BidPer(pb, media.BidBases{NewBuriedM: 1}) {

@@ -65,6 +65,13 @@ func runCheck(ctx context.Context, args []string, db string, maxBytes int64, opt
 		return err
 	}
 	rep := st.Check(hub)
+	if p != nil && rep.Hub != "" && len(rep.ThroughOnly) > 0 {
+		// Of the buildings reached only through another, those the plan's links meet: one
+		// served from an ic it reaches directly is fine. Bad links are reported below.
+		if links, _, errs := st.Links(p, rep.Hub); len(errs) == 0 {
+			st.ThroughFor(&rep, links)
+		}
+	}
 	if err := output.PrintCheck(w, rep, opt); err != nil {
 		return err
 	}
@@ -82,9 +89,19 @@ func runCheck(ctx context.Context, args []string, db string, maxBytes int64, opt
 			return err
 		}
 	}
+	// As plan: the buildings cut off, and those reached only through a building routes may not
+	// cross, cannot be served (exit 3); the rest can be planned.
+	var cannot []string
 	if len(rep.Unreachable) > 0 {
-		// As plan: the buildings cut off cannot be served (exit 3); the rest can be planned.
-		return fmt.Errorf("%w: %s cannot reach the hub %s: %s", route.ErrInfeasible, output.Counted(len(rep.Unreachable), "building", "buildings"), escape.Terminal(rep.Hub), escape.TerminalList(rep.Unreachable))
+		cannot = append(cannot, fmt.Sprintf("%s cannot reach the hub %s: %s", output.Counted(len(rep.Unreachable), "building", "buildings"),
+			escape.Terminal(rep.Hub), escape.TerminalList(rep.Unreachable)))
+	}
+	if len(rep.ThroughOnly) > 0 {
+		cannot = append(cannot, fmt.Sprintf("%s the hub %s only through another building routes may not cross: %s",
+			output.Counted(len(rep.ThroughOnly), "building reaches", "buildings reach"), escape.Terminal(rep.Hub), escape.TerminalList(rep.ThroughOnly)))
+	}
+	if len(cannot) > 0 {
+		return fmt.Errorf("%w: %s", route.ErrInfeasible, strings.Join(cannot, "; "))
 	}
 	return nil
 }

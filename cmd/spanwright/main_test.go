@@ -157,6 +157,20 @@ func TestBadInput(t *testing.T) {
 		{"check names unreachable", []string{"check", "testdata/plans/island.yaml"}, exitInfeasible, []string{"cannot reach the hub HQ: [ISLE]",
 			"network     in 2 separate pieces that each hold buildings; 1 building is off the hub's piece: [ISLE]\n",
 			"cut off: building ISLE is cut off from HQ: the pathways that reach it (D2) join none that reaches HQ"}},
+		// BACK is joined to HQ only by D2, which ends inside MID apart from D1's end: plan
+		// cannot route HQ-BACK (transit: true on MID would not help), so check says so, with
+		// what would serve it, and exits 3 as plan does.
+		{"check names through-only", []string{"check", "testdata/plans/through.yaml"}, exitInfeasible, []string{
+			"hub         HQ: 1 building reaches it only through another building (below); every other building can reach it\n",
+			"  no route: building BACK reaches HQ only through MID: ",
+			"transit: true on MID would not do, its pathways do not meet at one point inside it",
+			"or serve it from MID (role ic, and a link from it)",
+			"1 building reaches the hub HQ only through another building routes may not cross: [BACK]"}},
+		// The same campus with BACK served from MID, which it reaches directly: plan routes
+		// MID-BACK, so check lists BACK as served that way and exits 0.
+		{"check through served from MID", []string{"check", "testdata/plans/through_ic.yaml"}, exitOK, []string{
+			"hub         HQ: every building can reach its cross-connect in the plan; 1 building reaches the hub only through another building (below)\n",
+			"through     1 building reaches the hub only through another building, and the plan serves it from a cross-connect it reaches: [BACK]\n"}},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {

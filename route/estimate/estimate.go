@@ -78,6 +78,26 @@ type PullSection struct {
 	// Over lists the limits it goes over (why not within rating) as numbers, written in an
 	// output's units by install.Why.
 	Over []install.Excess
+	// Lateral is the entrance whose counted lateral the section pulls: from the building to
+	// where it ends in a structure or taps a duct (site.Site.Tap), a pull of its own with no
+	// span; or, where it carries a duct on from the duct's dangling end, as part of the pull
+	// along that duct with the turn between them. "" for a section along spans alone. A
+	// lateral at the served end lies before the first span (StartM from minus its length).
+	Lateral string
+}
+
+// SpansText is what the section runs along, for the outputs, in travel order: its span IDs,
+// and "lateral of" and the entrance for a lateral in it.
+func (p PullSection) SpansText() string {
+	switch {
+	case p.Lateral == "":
+		return strings.Join(p.Spans, " ")
+	case len(p.Spans) == 0:
+		return "lateral of " + p.Lateral
+	case p.StartM < 0: // at the served end, before the spans
+		return "lateral of " + p.Lateral + " " + strings.Join(p.Spans, " ")
+	}
+	return strings.Join(p.Spans, " ") + " lateral of " + p.Lateral
 }
 
 // PullPoint is one end of a pull section: a structure, junction or building by its ID, or a
@@ -157,6 +177,9 @@ type Construction struct {
 	// Entrances are the building entrances the plan uses (routing.Routed.Entrances); their
 	// counted laterals are in TrenchM or BoreM and AddedDuctM.
 	Entrances []routing.EntranceUse
+	// TapJunctions are the handholes built where those laterals tap the side of a duct
+	// (site.Site.Tap), one per entrance, in the order of Entrances, by junction ID.
+	TapJunctions []string
 	// Assumed is the new trench priced on the design's assumed_surface because the campus
 	// gives its pathway no surface (items.SurfaceAssumed), in the order it is counted: opened
 	// spans, counted laterals, trenches beside existing ducts. Its surface is TrenchM's key
@@ -338,13 +361,38 @@ func (r *run) pullPlan(i int) legPulls {
 		}
 		return rm
 	}
+	// A counted lateral that ends in a structure or taps a duct (where the plan builds a
+	// handhole) is pulled on its own: the spans' pulls start and end there, not at the building.
+	latTo, latFrom := r.lateralPull(leg.Link.To, leg.EntranceTo), r.lateralPull(leg.Link.From, leg.EntranceFrom)
+	// A lateral that carries a duct on from its dangling end is pulled with that duct: before
+	// the first span (carryTo) or after the last (carryFrom), with the turn between them.
+	var carryTo, carryFrom geo.Entry
+	if en, ok := r.entryOf(leg.Link.To, leg.EntranceTo); ok && en.LateralM > 0 && latTo.ID == "" && len(spans) > 0 && spans[0].Type == geo.TypeDuct {
+		carryTo = en
+	}
+	if en, ok := r.entryOf(leg.Link.From, leg.EntranceFrom); ok && en.LateralM > 0 && latFrom.ID == "" && len(spans) > 0 && spans[len(spans)-1].Type == geo.TypeDuct {
+		carryFrom = en
+	}
+	endM := cum[len(cum)-1]
 	name := func(x float64) (at PullPoint, key string) {
+		switch { // in a carried lateral: its building, or a handhole the plan adds along it
+		case carryTo.ID != "" && x < -0.01:
+			if off := x + carryTo.LateralM; off > 0.01 {
+				return PullPoint{Span: "lateral of " + carryTo.ID, AtM: off}, fmt.Sprintf("L:%s@%.0f", carryTo.ID, off)
+			}
+			return PullPoint{ID: leg.Link.To}, "B:" + leg.Link.To
+		case carryFrom.ID != "" && x > endM+0.01:
+			if off := endM + carryFrom.LateralM - x; off > 0.01 {
+				return PullPoint{Span: "lateral of " + carryFrom.ID, AtM: off}, fmt.Sprintf("L:%s@%.0f", carryFrom.ID, off)
+			}
+			return PullPoint{ID: leg.Link.From}, "B:" + leg.Link.From
+		}
 		for j, c := range cum {
 			if math.Abs(x-c) < 0.01 {
-				switch j {
-				case 0:
+				switch {
+				case j == 0 && latTo.ID == "" && carryTo.ID == "":
 					return PullPoint{ID: leg.Link.To}, "B:" + leg.Link.To
-				case len(cum) - 1:
+				case j == len(cum)-1 && latFrom.ID == "" && carryFrom.ID == "":
 					return PullPoint{ID: leg.Link.From}, "B:" + leg.Link.From
 				}
 				return PullPoint{ID: juncs[j]}, "J:" + juncs[j]
@@ -359,6 +407,59 @@ func (r *run) pullPlan(i int) legPulls {
 		return PullPoint{Span: spans[j].ID, AtM: off}, fmt.Sprintf("S:%s@%.0f", spans[j].ID, off)
 	}
 	seq := 0
+	// lateral pulls the counted lateral of entrance en, from building b to junction at, as
+	// straight duct (its turn into the duct or structure is taken there), from start along
+	// the leg.
+	lateral := func(en geo.Entry, b string, start float64, served bool) {
+		plan, err := s.Pulls.Sections([]install.Step{{Kind: install.KindStraight, LengthM: en.LateralM}}, nil, spec)
+		if err != nil {
+			e.warnings = append(e.warnings, fmt.Sprintf("%s %s: no pulling plan for the lateral of %s: %v", leg.Link.ID, leg.Name, en.ID, err))
+			return
+		}
+		at := func(x float64) (PullPoint, string) { // x metres from the building
+			switch {
+			case x < 0.01:
+				return PullPoint{ID: b}, "B:" + b
+			case x > en.LateralM-0.01:
+				return PullPoint{ID: en.Junction}, "J:" + en.Junction
+			}
+			return PullPoint{Span: "lateral of " + en.ID, AtM: x}, fmt.Sprintf("L:%s@%.0f", en.ID, x)
+		}
+		for _, sec := range plan.Sections {
+			seq++
+			ps := PullSection{Leg: i, Seq: seq, LengthM: sec.LengthM, TensionN: sec.MaxTensionN, RatedN: spec.MaxTensionN,
+				SWBPNPerM: sec.MaxSWBPNPerM, AddedFrom: sec.StartAdded, AddedTo: sec.EndAdded, WithinRating: sec.WithinRating,
+				Over: sec.Over, Lateral: en.ID}
+			var fromKey, toKey string
+			if served { // travel order: from the building to the junction
+				ps.StartM = start + sec.StartM
+				ps.From, fromKey = at(sec.StartM)
+				ps.To, toKey = at(sec.StartM + sec.LengthM)
+			} else { // from the junction to the building
+				ps.StartM = start + sec.StartM
+				ps.From, fromKey = at(en.LateralM - sec.StartM)
+				ps.To, toKey = at(en.LateralM - sec.StartM - sec.LengthM)
+			}
+			if sec.StartAdded {
+				e.added = append(e.added, fromKey)
+			}
+			if sec.EndAdded {
+				e.added = append(e.added, toKey)
+			}
+			ps.FeedAt, ps.OtherN = ps.From, sec.Reverse.MaxTensionN
+			if sec.Best == install.Reverse {
+				ps.FeedAt, ps.OtherN = ps.To, sec.Forward.MaxTensionN
+			}
+			if !sec.WithinRating {
+				e.warnings = append(e.warnings, fmt.Sprintf("%s %s: pull %d from %s to %s: %s; reroute or add a structure",
+					leg.Link.ID, leg.Name, seq, ps.From, ps.To, sec.Reason()))
+			}
+			e.sections = append(e.sections, ps)
+		}
+	}
+	if latTo.ID != "" {
+		lateral(latTo, leg.Link.To, -latTo.LateralM, true)
+	}
 	for j := 0; j < len(spans); {
 		if spans[j].Type != geo.TypeDuct {
 			j++
@@ -370,6 +471,14 @@ func (r *run) pullPlan(i int) legPulls {
 		// atPoint: the cable is at a pull point, where a bend is taken inside the structure
 		// (site.NewRuns places handholes at bends so).
 		atPoint := func() bool { return len(points) > 0 && points[len(points)-1] == len(steps) }
+		pre := 0.0 // metres of carried lateral before the group's first span
+		if first == 0 && carryTo.ID != "" {
+			pre = carryTo.LateralM
+			steps = append(steps, install.Step{Kind: install.KindStraight, LengthM: pre})
+			if turn := s.Net.LateralTurnDeg(carryTo.Lateral, leg.Steps[0], true); turn > 0 {
+				steps = append(steps, install.Step{Kind: install.KindBend, AngleDeg: turn, RadiusM: radius(&spans[0])})
+			}
+		}
 		for ; j < len(spans) && spans[j].Type == geo.TypeDuct; j++ {
 			sp := &spans[j]
 			rm := radius(sp)
@@ -428,6 +537,12 @@ func (r *run) pullPlan(i int) legPulls {
 				travelM += segM
 			}
 		}
+		if j == len(spans) && carryFrom.ID != "" {
+			if turn := s.Net.LateralTurnDeg(carryFrom.Lateral, leg.Steps[j-1], false); turn > 0 && !atPoint() {
+				steps = append(steps, install.Step{Kind: install.KindBend, AngleDeg: turn, RadiusM: radius(&spans[j-1])})
+			}
+			steps = append(steps, install.Step{Kind: install.KindStraight, LengthM: carryFrom.LateralM})
+		}
 		plan, err := s.Pulls.Sections(steps, points, spec)
 		if err != nil {
 			e.warnings = append(e.warnings, fmt.Sprintf("%s %s: no pulling plan: %v", leg.Link.ID, leg.Name, err))
@@ -435,7 +550,7 @@ func (r *run) pullPlan(i int) legPulls {
 		}
 		for _, sec := range plan.Sections {
 			seq++
-			start := cum[first] + sec.StartM
+			start := cum[first] + sec.StartM - pre
 			end := start + sec.LengthM
 			ps := PullSection{Leg: i, Seq: seq, StartM: start, LengthM: sec.LengthM, BendDeg: sec.BendDeg,
 				TensionN: sec.MaxTensionN, RatedN: spec.MaxTensionN, SWBPNPerM: sec.MaxSWBPNPerM,
@@ -463,6 +578,12 @@ func (r *run) pullPlan(i int) legPulls {
 					ps.Spans = append(ps.Spans, spans[q].ID)
 				}
 			}
+			switch {
+			case pre > 0 && start < -0.01:
+				ps.Lateral = carryTo.ID
+			case j == len(spans) && carryFrom.ID != "" && end > endM+0.01:
+				ps.Lateral = carryFrom.ID
+			}
 			if !sec.WithinRating {
 				e.warnings = append(e.warnings, fmt.Sprintf("%s %s: pull %d from %s to %s: %s; reroute or add a structure",
 					leg.Link.ID, leg.Name, seq, ps.From, ps.To, sec.Reason()))
@@ -470,10 +591,35 @@ func (r *run) pullPlan(i int) legPulls {
 			e.sections = append(e.sections, ps)
 		}
 	}
+	if latFrom.ID != "" {
+		lateral(latFrom, leg.Link.From, cum[len(cum)-1], false)
+	}
 	if tight != "" {
 		e.warnings = append(e.warnings, tight)
 	}
 	return e
+}
+
+// entryOf is building b's entrance id.
+func (r *run) entryOf(b, id string) (geo.Entry, bool) {
+	for _, en := range r.Site.Net.EntrancesOf(b) {
+		if en.ID == id {
+			return en, true
+		}
+	}
+	return geo.Entry{}, false
+}
+
+// lateralPull is the entrance id of building b when its counted lateral is pulled on its own
+// (it ends in a structure, or taps a duct where the plan builds a handhole); the zero Entry
+// when it is not (no lateral, or one that carries a duct on from its dangling end).
+func (r *run) lateralPull(b, id string) geo.Entry {
+	for _, en := range r.Site.Net.EntrancesOf(b) {
+		if en.ID == id && en.LateralM > 0 && (r.Site.IsStructure(en.Junction) || r.Site.TapOf(en)) {
+			return en
+		}
+	}
+	return geo.Entry{}
 }
 
 // ductFill checks every duct of every span of limited capacity that carries cable, with
@@ -729,6 +875,9 @@ func (r *run) construction() {
 		c.AddedDuctM += float64(max(design.NewDucts, 1)) * en.LateralM
 		c.LateralM += en.LateralM
 		r.newFrom[keyAddedDuct] = append(r.newFrom[keyAddedDuct], fromEntrance(en))
+		if en.Tap != "" {
+			c.TapJunctions = append(c.TapJunctions, en.Tap)
+		}
 	}
 	// The handholes are the routing's (routing.Routed.Handholes): the optimizer's charges it
 	// paid, so the bill counts what the model counted.
@@ -849,7 +998,7 @@ func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg, ru
 		add(media.CategoryMaterial, fmt.Sprintf("splice tray, %d splices", p.TraySplices()), media.UnitEach, joins*float64(p.TraysFor(t.Size.Count)), media.PriceKey{Item: media.PriceSpliceTray})
 		work("splice fibre, mid-span joins", media.UnitEach, joins*float64(t.Size.Count), media.PriceKey{Item: media.RateSplice})
 	}
-	// Along the route by pathway type; then risers, coils and entrance loops in tray,
+	// Along the route by pathway type; then risers, coils and entrance loops inside the buildings,
 	// counted laterals and structure loops in duct.
 	var alongM [len(items.PathwayTypes)]float64
 	for _, st := range l.Steps {
@@ -876,7 +1025,8 @@ func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg, ru
 			entered++
 		}
 	}
-	added := float64(len(l.Turns))
+	// A handhole where a lateral at either end taps a duct is a pull point too (items.TapCrew).
+	added := float64(len(l.Turns) + len(s.LegTaps(l.Link.To, l.EntranceTo, l.Link.From, l.EntranceFrom)))
 	for _, st := range l.Steps {
 		sp, _ := s.Net.Span(st.SpanID)
 		added += float64(len(runHH[st.SpanID])) + items.JoinEnds(s, &sp)
@@ -966,6 +1116,15 @@ func (r *run) quantities() {
 		}
 		e.Quantities = append(e.Quantities, one(items.RunHandholes(len(con.RunHandholes)), on))
 	}
+	if len(con.TapJunctions) > 0 {
+		var at []string
+		for _, en := range con.Entrances {
+			if en.Tap != "" {
+				at = append(at, fromEntrance(en))
+			}
+		}
+		e.Quantities = append(e.Quantities, one(items.TapHandholes(len(con.TapJunctions)), at))
+	}
 	// The entries, new or there already (items.Entrance), one line of each.
 	for _, built := range []bool{false, true} {
 		var at []string
@@ -973,7 +1132,7 @@ func (r *run) quantities() {
 		for _, en := range con.Entrances {
 			if en.Built == built {
 				at = append(at, fromEntrance(en))
-				q = items.Entrance(p, design, 0, built)
+				q = items.Entrance(p, design, 0, built, false)
 			}
 		}
 		if len(q) > 0 {

@@ -20,6 +20,7 @@ import (
 	"spanwright/route/estimate"
 	"spanwright/route/internal/testplan"
 	"spanwright/route/internal/testsite"
+	"spanwright/route/items"
 	"spanwright/route/output"
 	"spanwright/route/plan"
 )
@@ -810,5 +811,171 @@ func TestBillLinesTraced(t *testing.T) {
 		if len(l.From) == 0 {
 			t.Errorf("%s: no source", l.Item)
 		}
+	}
+}
+
+// TestInsideWorkNotTray: the pull campus has no tray, so no bill line may say cable is pulled
+// in tray; the risers, service coils and entrance loops of every leg are one line of their own
+// (items.InsideItem), its work the sum over the feasible legs of (risers + coils + loops) ×
+// cables, at the book's rate for cable placed inside buildings (pull_m_per_hour tray, 80 m/h
+// in the demo book; common practice, no published source).
+func TestInsideWorkNotTray(t *testing.T) {
+	t.Parallel()
+	r, err := testplan.PullSolve(t, 100, 2, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if l, ok := testplan.BOMLine(r.Estimate.BOM, "pull cable in tray"); ok {
+		t.Errorf("a campus with no tray is billed %+v", l)
+	}
+	want := 0.0
+	for _, l := range r.Legs {
+		if l.Feasible {
+			want += (l.RiserM + l.Cable.EndSlackM + l.Cable.EntranceLoopM) * float64(l.Cable.Cables)
+		}
+	}
+	l, ok := testplan.BOMLine(r.Estimate.BOM, items.InsideItem)
+	if !ok || want == 0 || math.Abs(l.Work-want) > 1e-6 || l.RatePerHour != 80 {
+		t.Errorf("inside work: got %+v, want %.1f m at 80 m per hour", l, want)
+	}
+}
+
+// tapCampus: hub A's duct D runs from inside A at (0, 0) east to handhole HH at (200, 0). S
+// (at 100, 30) and T (at 200, 30) have no pathway: each is reached by a counted lateral of
+// 20 m from its footprint (y = 20) south to D. S's lateral taps the side of D at (100, 0),
+// where no structure is; T's ends in HH.
+func tapCampus() string {
+	d := fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":"D","type":"duct"},"geometry":{"type":"LineString","coordinates":[[%.7f,%.7f],[%.7f,%.7f]]}}`,
+		testsite.X(0), testsite.Y(0), testsite.X(200), testsite.Y(0))
+	hh := fmt.Sprintf(`{"type":"Feature","properties":{"kind":"structure","id":"HH","type":"handhole"},"geometry":{"type":"Point","coordinates":[%.7f,%.7f]}}`,
+		testsite.X(200), testsite.Y(0))
+	return `{"type":"FeatureCollection","features":[` + strings.Join([]string{testsite.Box("A", "mc", 0, 0),
+		testsite.Box("S", "", 100, 30), testsite.Box("T", "", 200, 30), d, hh}, ",") + `]}`
+}
+
+// TestLateralTap (lengths within 0.5 m: the pull grid's metres are geodesic): a counted lateral that taps the side of an existing duct gets a handhole
+// at the tap (common practice, no published source: a new duct cannot be joined into the side
+// of one in the ground), billed once per entrance as "handhole where a lateral taps a duct"
+// at the book's handhole price, and the pulling plan breaks there: the lateral is a pull of its
+// own, S to the tap, its 90° turn taken inside the handhole (TIA-569 counts bends between pull
+// points, and a pull point ends them), then the tap to A along D. T's lateral ends in the
+// existing handhole HH: its lateral is a pull of its own too, with no handhole added. The crew
+// sets up one pull per section and enters the tap's handhole.
+func TestLateralTap(t *testing.T) {
+	t.Parallel()
+	r, err := testplan.PullSolveJSON(t, tapCampus(), nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	c := r.Estimate.Construction
+	if len(c.TapJunctions) != 1 {
+		t.Fatalf("tap handholes at %q, want one (S's lateral)", c.TapJunctions)
+	}
+	if got := testplan.BOMQty(r.Estimate.BOM, "handhole where a lateral taps a duct"); got != 1 {
+		t.Errorf("tap handholes billed: %v, want 1", got)
+	}
+	hh, _ := r.Engine.PriceBook().Price(media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole})
+	if l, ok := testplan.BOMLine(r.Estimate.BOM, "handhole where a lateral taps a duct"); !ok || l.UnitCents != hh {
+		t.Errorf("tap handhole line %+v, want the handhole price %d", l, hh)
+	}
+	for _, tc := range []struct {
+		link, joint string
+		next        float64 // the length of the pull after the lateral, along D
+	}{
+		{"A-S", c.TapJunctions[0], 100},
+		{"A-T", "HH", 200},
+	} {
+		i, leg := testplan.LegOf(t, r, tc.link)
+		var ps []estimate.PullSection
+		for _, p := range r.Estimate.Pulls {
+			if p.Leg == i {
+				ps = append(ps, p)
+			}
+		}
+		building := leg.Link.To
+		if len(ps) != 2 {
+			t.Fatalf("%s: %d pull sections, want 2: %+v", tc.link, len(ps), ps)
+		}
+		lat, along := ps[0], ps[1]
+		if lat.Lateral != leg.EntranceTo || lat.From.ID != building || lat.To.ID != tc.joint || math.Abs(lat.LengthM-20) > 0.5 || lat.BendDeg != 0 {
+			t.Errorf("%s: lateral pull %+v, want %s to %s, 20 m straight", tc.link, lat, building, tc.joint)
+		}
+		if along.From.ID != tc.joint || along.To.ID != "A" || math.Abs(along.LengthM-tc.next) > 0.5 {
+			t.Errorf("%s: pull along D %+v, want %s to A, %.0f m", tc.link, along, tc.joint, tc.next)
+		}
+		if got := lat.SpansText(); got != "lateral of "+leg.EntranceTo {
+			t.Errorf("%s: the lateral pull runs along %q", tc.link, got)
+		}
+	}
+	// Crew: one set-up per section of each cable, one entry per handhole (HH and the tap).
+	setups, entries := 0.0, 0.0
+	for _, l := range r.Legs {
+		if l.Feasible {
+			setups += 2 * float64(l.Cable.Cables)
+			entries += float64(l.Cable.Cables)
+		}
+	}
+	if got := testplan.BOMQty(r.Estimate.BOM, "crew set-up, per pull"); got != setups {
+		t.Errorf("crew set-ups: %v, want %v", got, setups)
+	}
+	if got := testplan.BOMQty(r.Estimate.BOM, "crew entry into a structure, per cable"); got != entries {
+		t.Errorf("crew entries: %v, want %v", got, entries)
+	}
+}
+
+// TestLateralCarriesDuct: duct E runs from inside hub A at (0, 0) east to (100, 0) and ends
+// there, at no structure; U (at 100, 30) is reached by a counted lateral of 20 m south to E's
+// end, where it carries E on with a 90° turn. No handhole is added; the one pull from U to A
+// takes the lateral, its turn and E (TIA-569 counts that bend towards the 180° between pull
+// points), 120 m with 90° of bends (lengths within 0.5 m: the pull grid's metres are geodesic).
+func TestLateralCarriesDuct(t *testing.T) {
+	t.Parallel()
+	e := fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":"E","type":"duct"},"geometry":{"type":"LineString","coordinates":[[%.7f,%.7f],[%.7f,%.7f]]}}`,
+		testsite.X(0), testsite.Y(0), testsite.X(100), testsite.Y(0))
+	campus := `{"type":"FeatureCollection","features":[` + strings.Join([]string{testsite.Box("A", "mc", 0, 0), testsite.Box("U", "", 100, 30), e}, ",") + `]}`
+	r, err := testplan.PullSolveJSON(t, campus, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if n := len(r.Estimate.Construction.TapJunctions); n != 0 {
+		t.Errorf("%d tap handholes, want none", n)
+	}
+	_, leg := testplan.LegOf(t, r, "A-U")
+	if len(r.Estimate.Pulls) != 1 {
+		t.Fatalf("pulls %+v, want one", r.Estimate.Pulls)
+	}
+	p := r.Estimate.Pulls[0]
+	if p.From.ID != "U" || p.To.ID != "A" || math.Abs(p.LengthM-120) > 0.5 || math.Abs(p.BendDeg-90) > 0.5 || p.Lateral != leg.EntranceTo {
+		t.Errorf("pull %+v, want U to A, 120 m, 90° of bends, with U's lateral", p)
+	}
+	if got, want := p.SpansText(), "lateral of "+leg.EntranceTo+" E"; got != want {
+		t.Errorf("pull runs along %q, want %q", got, want)
+	}
+	if math.Abs(p.StartM+20) > 0.5 {
+		t.Errorf("pull starts at %.2f m, want -20 (the lateral before the first span)", p.StartM)
+	}
+}
+
+// TestLateralCarriesDuctAtHub is TestLateralCarriesDuct with U as the hub: the lateral is at
+// the cross-connect's end, after E, and the pull from A to U takes E, the turn and the lateral.
+func TestLateralCarriesDuctAtHub(t *testing.T) {
+	t.Parallel()
+	e := fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":"E","type":"duct"},"geometry":{"type":"LineString","coordinates":[[%.7f,%.7f],[%.7f,%.7f]]}}`,
+		testsite.X(0), testsite.Y(0), testsite.X(100), testsite.Y(0))
+	campus := `{"type":"FeatureCollection","features":[` + strings.Join([]string{testsite.Box("A", "", 0, 0), testsite.Box("U", "mc", 100, 30), e}, ",") + `]}`
+	r, err := testplan.PullSolveJSON(t, campus, func(p *plan.Plan) { p.Hub = "U" })
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, leg := testplan.LegOf(t, r, "U-A")
+	if len(r.Estimate.Pulls) != 1 {
+		t.Fatalf("pulls %+v, want one", r.Estimate.Pulls)
+	}
+	p := r.Estimate.Pulls[0]
+	if p.From.ID != "A" || p.To.ID != "U" || math.Abs(p.LengthM-120) > 0.5 || math.Abs(p.BendDeg-90) > 0.5 || p.Lateral != leg.EntranceFrom {
+		t.Errorf("pull %+v, want A to U, 120 m, 90° of bends, with U's lateral", p)
+	}
+	if got, want := p.SpansText(), "E lateral of "+leg.EntranceFrom; got != want {
+		t.Errorf("pull runs along %q, want %q", got, want)
 	}
 }

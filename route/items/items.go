@@ -61,11 +61,24 @@ func AlongSpan(d plan.Design, typ string, metres float64) []media.Quantity {
 	return q
 }
 
+// InsideItem is the bill item of the cable work inside the buildings at a leg's ends.
+const InsideItem = "pull riser cable, place service coils and entrance loops"
+
+// Inside is the work one cable takes inside the buildings at a leg's ends: metres pulled up
+// the risers and laid as service coils and entrance loops. It is its own bill line whatever
+// pathways the campus has, priced at the book's rate for cable placed inside buildings,
+// labour.pull_m_per_hour.tray (common practice, no published source: a riser pull and coiling
+// slack go at about the pace of placing cable in tray, not of pulling it through duct).
+func Inside(metres float64) media.Quantity {
+	return media.Quantity{Category: media.CategoryLabour, Item: InsideItem, Unit: media.UnitM, Amount: metres,
+		Price: LabourHour, Rate: media.PriceKey{Item: media.RatePull, Name: geo.TypeTray}}
+}
+
 // LegEnds is what one cable takes at the ends of a leg besides the cable: risers, service
-// coils and entrance loops (coilsM) pulled in tray, counted laterals pulled in the duct the
-// plan builds for them (Entrance).
+// coils and entrance loops (coilsM) placed inside the buildings (Inside), counted laterals
+// pulled in the duct the plan builds for them (Entrance).
 func LegEnds(riserM, coilsM, lateralM float64) []media.Quantity {
-	return []media.Quantity{Pull(geo.TypeTray, riserM+coilsM), Pull(geo.TypeDuct, lateralM)}
+	return []media.Quantity{Inside(riserM + coilsM), Pull(geo.TypeDuct, lateralM)}
 }
 
 // StructureLoops is what one cable's slack loops of metres at structures take besides the
@@ -173,7 +186,9 @@ func RunHandholes(n int) media.Quantity {
 // Entrance is what a building entrance a plan uses takes: its entry, and, when the campus
 // reaches it by a counted lateral of lateralM metres (no pathway drawn), that lateral built as
 // new construction is: trench or bore, restoration of the design's assumed surface, the
-// design's ducts. Cables in the lateral are pulled in duct (LegEnds).
+// design's ducts, and when it taps the side of a duct (tap, site.Site.TapOf) the handhole
+// built there (TapHandholes). Cables in the lateral are pulled in duct (LegEnds), and a crew
+// sets up a pull at the tap's handhole and enters it (TapCrew).
 //
 // The entry is the one decision of what a wall costs (README, "Building entry"): a new one
 // (wall penetration, sleeve or entrance conduit, firestop) at building_entrance_each; one that
@@ -181,7 +196,7 @@ func RunHandholes(n int) media.Quantity {
 // needs only the cables firestopped through its sleeve, at entrance_firestop_each, or at
 // building_entrance_each when the book has no such price (the dearer, rather than nothing).
 // A book with neither prices no entry.
-func Entrance(p *media.PriceBook, d plan.Design, lateralM float64, built bool) []media.Quantity {
+func Entrance(p *media.PriceBook, d plan.Design, lateralM float64, built, tap bool) []media.Quantity {
 	var q []media.Quantity
 	switch {
 	case built && p.Has(media.PriceFirestop):
@@ -194,9 +209,23 @@ func Entrance(p *media.PriceBook, d plan.Design, lateralM float64, built bool) [
 	if lateralM > 0 {
 		lat := &geo.Span{Type: geo.TypeDuct, LengthM: lateralM}
 		q = append(q, Opening(d, lat, MethodOf(p, d, lat))...)
+		if tap {
+			q = append(q, TapHandholes(1))
+		}
 	}
 	return q
 }
+
+// TapHandholes is n handholes built where a counted lateral taps the side of a duct
+// (site.Site.Tap), priced as the other handholes the plan adds.
+func TapHandholes(n int) media.Quantity {
+	return media.Quantity{Category: media.CategoryConstruction, Item: "handhole where a lateral taps a duct",
+		Unit: media.UnitEach, Amount: float64(n), Price: media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole}}
+}
+
+// TapCrew is the crew labour one cable takes at a lateral's tap handhole: a pull set-up (the
+// lateral is a pull of its own) and an entry, as at a handhole where a route turns.
+func TapCrew(p *media.PriceBook) []media.Quantity { return AtJunctions(p, 1, 1) }
 
 // Crew is amount of a crew task (media.CrewTasks) when the book prices it, else nothing: crew
 // labour is optional, task by task.

@@ -55,6 +55,9 @@ func verifyErr(p *Problem, sol *Solution) error {
 		if !dm.Diverse && len(legs) != 1 {
 			return fmt.Errorf("demand %d: not diverse but two legs", d)
 		}
+		if got, want := r.Primary.ConstructionCents+r.Secondary.ConstructionCents, r.Cost.ConstructionShareCents+r.Cost.AddedDuctCents+r.Cost.ChargeShareCents; got != want {
+			return fmt.Errorf("demand %d: legs' construction %d, route's shares %d", d, got, want)
+		}
 		for li, leg := range legs {
 			v := dm.Source
 			var lm float64

@@ -342,3 +342,30 @@ func TestSinglePoints(t *testing.T) {
 		})
 	}
 }
+
+// TestLegConstruction: a diverse demand between two nodes joined by an existing edge and a
+// proposed one (FixedCents 5000, and a charge of 700 over it) takes the existing edge as its
+// primary (cheaper) and the proposed one as its diverse leg; the trench and the charge are the
+// diverse leg's construction, none the primary's, and the route's shares are unchanged.
+func TestLegConstruction(t *testing.T) {
+	t.Parallel()
+	edges := []Edge{{From: 0, To: 1, LengthM: 10}, {From: 0, To: 1, LengthM: 12, Proposed: true, FixedCents: 5000}}
+	p := unitProblem(2, edges, 0, 1)
+	p.AllowNew = true
+	p.Charges = []Charge{{ID: "hh", Edges: []int{1}, Cents: 700}}
+	sol, err := Solve(p, Settings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	verify(t, "leg construction", p, sol)
+	r := sol.Routes[0]
+	if len(r.Primary.Hops) != 1 || r.Primary.Hops[0].Edge != 0 || len(r.Secondary.Hops) != 1 || r.Secondary.Hops[0].Edge != 1 {
+		t.Fatalf("legs: primary %+v, secondary %+v", r.Primary, r.Secondary)
+	}
+	if r.Primary.ConstructionCents != 0 || r.Secondary.ConstructionCents != 5700 {
+		t.Errorf("construction: primary %d, secondary %d; want 0 and 5700", r.Primary.ConstructionCents, r.Secondary.ConstructionCents)
+	}
+	if r.Cost.ConstructionShareCents != 5000 || r.Cost.ChargeShareCents != 700 {
+		t.Errorf("route's shares: %+v", r.Cost)
+	}
+}

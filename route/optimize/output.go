@@ -2,6 +2,7 @@ package optimize
 
 import (
 	"fmt"
+	"slices"
 	"strings"
 )
 
@@ -52,7 +53,10 @@ func (sv *solver) solution() *Solution {
 		users := st.users[e]
 		if p.Edges[e].Proposed && len(users) > 0 {
 			sol.Opened = append(sol.Opened, e)
-			splitCents(p.Edges[e].FixedCents, users, func(u int32) *int64 { return &sol.Routes[u].Cost.ConstructionShareCents })
+			splitCents(p.Edges[e].FixedCents, users, func(u int32, c int64) {
+				sol.Routes[u].Cost.ConstructionShareCents += c
+				sol.Routes[u].legWith(e).ConstructionCents += c
+			})
 		}
 		if st.count[e] == 0 {
 			continue
@@ -70,7 +74,10 @@ func (sv *solver) solution() *Solution {
 			prev := 0
 			for i, k := range sv.cap.prefixNeeds(e, ods) {
 				if k > prev {
-					sol.Routes[users[i]].Cost.AddedDuctCents += sv.ductsCents(e, k) - sv.ductsCents(e, prev)
+					r := &sol.Routes[users[i]]
+					c := sv.ductsCents(e, k) - sv.ductsCents(e, prev)
+					r.Cost.AddedDuctCents += c
+					r.legWith(e).ConstructionCents += c
 					prev = k
 				}
 			}
@@ -109,13 +116,30 @@ func (sv *solver) chargeShares(sol *Solution) {
 			continue
 		}
 		sol.Charged = append(sol.Charged, k)
-		splitCents(p.Charges[k].Cents, us, func(u int32) *int64 { return &sol.Routes[u].Cost.ChargeShareCents })
+		splitCents(p.Charges[k].Cents, us, func(u int32, c int64) {
+			r := &sol.Routes[u]
+			r.Cost.ChargeShareCents += c
+			leg := &r.Primary
+			if !slices.ContainsFunc(r.Primary.Hops, func(h Hop) bool { return slices.Contains(p.Charges[k].Edges, h.Edge) }) {
+				leg = &r.Secondary
+			}
+			leg.ConstructionCents += c
+		})
 	}
 }
 
-// splitCents adds f cents to the users' shares (demands, ascending): equal parts, the
+// legWith is the leg of r whose hops take edge e: the secondary when it does, else the
+// primary (a demand's legs share no edge).
+func (r *Route) legWith(e int) *Leg {
+	if slices.ContainsFunc(r.Secondary.Hops, func(h Hop) bool { return h.Edge == e }) {
+		return &r.Secondary
+	}
+	return &r.Primary
+}
+
+// splitCents gives f cents to the users (demands, ascending) through add: equal parts, the
 // remainder cents to the first.
-func splitCents(f int64, users []int32, share func(u int32) *int64) {
+func splitCents(f int64, users []int32, add func(u int32, c int64)) {
 	n := int64(len(users))
 	part := f / n
 	for i, u := range users {
@@ -123,7 +147,7 @@ func splitCents(f int64, users []int32, share func(u int32) *int64) {
 		if i == 0 {
 			c += f - part*n
 		}
-		*share(u) += c
+		add(u, c)
 	}
 }
 

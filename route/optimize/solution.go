@@ -10,6 +10,11 @@ type Hop struct {
 type Leg struct {
 	Hops    []Hop
 	LengthM float64 // sum of the edges' LengthM, in metres
+	// ConstructionCents is the leg's part of its route's ConstructionShareCents,
+	// AddedDuctCents and ChargeShareCents: each share goes to the leg whose edge it is for (a
+	// charge's to the first leg, primary then secondary, that uses one of its edges), so the
+	// legs' parts add up to the route's three.
+	ConstructionCents int64
 }
 
 // Nodes returns the node indices the leg passes, Source first, given the problem's edges.

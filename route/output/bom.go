@@ -382,7 +382,7 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 	for _, p := range r.Estimate.Pulls {
 		l := &r.Legs[p.Leg]
 		pulls.Append(workbook.Text(l.Link.ID), workbook.Text(l.Name), workbook.Int(int64(p.Seq)), workbook.Text(PointText(opt, p.From)),
-			workbook.Text(PointText(opt, p.To)), workbook.Text(PointText(opt, p.FeedAt)), workbook.Text(strings.Join(p.Spans, " ")),
+			workbook.Text(PointText(opt, p.To)), workbook.Text(PointText(opt, p.FeedAt)), workbook.Text(p.SpansText()),
 			workbook.Number(u.m(p.StartM), 1), workbook.Number(u.m(p.LengthM), 1), workbook.Number(p.BendDeg, 1),
 			workbook.Number(u.m(p.BendRadiusM), 2), workbook.Number(u.n(p.TensionN), 1), workbook.Number(u.n(p.OtherN), 1),
 			workbook.Number(u.n(p.RatedN), 1), workbook.Number(100*p.TensionN/p.RatedN, 1), workbook.Number(u.nPerM(p.SWBPNPerM), 1),

@@ -116,7 +116,7 @@ func TestGeoPackageGDAL(t *testing.T) {
 		LayerLegs:         "Line String " + strconv.Itoa(len(r.Legs)) + " EPSG:4326",
 		LayerSpans:        "Line String " + strconv.Itoa(len(r.Fill)) + " EPSG:4326",
 		LayerConstruction: "Line String " + strconv.Itoa(works) + " EPSG:4326",
-		LayerStructures:   "Point " + strconv.Itoa(len(r.Handholes)+len(r.Estimate.Construction.RunHandholes)+r.Estimate.AddedPullPoints) + " EPSG:4326",
+		LayerStructures:   "Point " + strconv.Itoa(len(r.Handholes)+len(r.Estimate.Construction.TapJunctions)+len(r.Estimate.Construction.RunHandholes)+r.Estimate.AddedPullPoints) + " EPSG:4326",
 		LayerBuildings:    "Multi Polygon " + strconv.Itoa(len(r.Site.Campus.Buildings)) + " EPSG:4326",
 		LayerEntrances:    "Point " + strconv.Itoa(len(r.Site.Net.Entrances)) + " EPSG:4326",
 	}
@@ -170,9 +170,13 @@ func TestGeoPackageGDAL(t *testing.T) {
 	if got := num(LayerSpans, "SUM(cables)"); int(got) != cables {
 		t.Errorf("spans: %v cables, want %d", got, cables)
 	}
-	if got := num(LayerStructures, "COUNT(*)"); int(got) != s.TurnHandholes+len(r.Estimate.Construction.NewJunctions)+s.AddedPullPoints {
-		t.Errorf("added structures: %v, want %d turns, %d joins and %d pull points", got, s.TurnHandholes,
-			len(r.Estimate.Construction.NewJunctions), s.AddedPullPoints)
+	taps := len(r.Estimate.Construction.TapJunctions)
+	if got := num(LayerStructures, "COUNT(*)"); int(got) != s.TurnHandholes+len(r.Estimate.Construction.NewJunctions)+taps+s.AddedPullPoints {
+		t.Errorf("added structures: %v, want %d turns, %d joins, %d taps and %d pull points", got, s.TurnHandholes,
+			len(r.Estimate.Construction.NewJunctions), taps, s.AddedPullPoints)
+	}
+	if got := num(LayerStructures, "SUM(purpose = 'tap')"); int(got) != taps || taps == 0 {
+		t.Errorf("added structures: %v taps, want %d (the demo's laterals that tap a duct)", got, taps)
 	}
 
 	// Each leg runs from its from building's entrance to its to building's.

@@ -43,6 +43,7 @@ const (
 	PurposeTurn = "turn" // where a route turns from one pathway into another
 	PurposePull = "pull" // an intermediate pull point the pulling plan adds (estimate.Estimate.AddedPullPoints)
 	PurposeRun  = "run"  // along new construction, at handhole_spacing_m or the bend budget (site.NewRuns)
+	PurposeTap  = "tap"  // where a counted lateral taps the side of a duct (site.Site.Tap)
 )
 
 // gpkgLayers are plan.gpkg's layers, their columns and what each holds: the README's table
@@ -98,7 +99,7 @@ func gpkgLayers() []gpkgout.Layer {
 			Columns: []gpkgout.Column{
 				c("junction", tx, "junction id; none for a pull point on a span"),
 				c("span", tx, "span id of a pull point on a span"), c("at_m", re, "its distance from the span's from end, metres"),
-				c("purpose", tx, "join (an opened pathway joins there), turn (a route turns between pathways), run (along new construction, at the design's spacing or bend budget) or pull (the pulling plan needs a pull point)"),
+				c("purpose", tx, "join (an opened pathway joins there), turn (a route turns between pathways), run (along new construction, at the design's spacing or bend budget), tap (a counted lateral taps the side of a duct) or pull (the pulling plan needs a pull point)"),
 				c("links_text", tx, "links whose legs turn or are pulled there, joined by |"),
 			}},
 		{Name: LayerBuildings, Geometry: gpkgout.MultiPolygon,
@@ -303,6 +304,16 @@ func planLayers(ctx context.Context, r *route.Result) ([]gpkgout.Layer, error) {
 		}
 		add(LayerStructures, j.Point, h.Junction, nil, nil, purpose, ListText(turnLinks[h.Junction]))
 	}
+	for _, en := range r.Estimate.Construction.Entrances {
+		if en.Tap == "" {
+			continue
+		}
+		j, ok := net.Junction(en.Tap)
+		if !ok {
+			return nil, fmt.Errorf("handhole where the lateral of %s taps a duct: %s is not a junction of the network", en.Entrance, en.Tap)
+		}
+		add(LayerStructures, j.Point, en.Tap, nil, nil, PurposeTap, ListText(entLinks[ent{en.Building, en.Entrance}]))
+	}
 	for _, h := range r.Estimate.Construction.RunHandholes {
 		sp, ok := net.Span(h.Span)
 		if !ok {
@@ -317,6 +328,10 @@ func planLayers(ctx context.Context, r *route.Result) ([]gpkgout.Layer, error) {
 				return nil, fmt.Errorf("pull point at %s: not a junction of the network", p.junction)
 			}
 			add(LayerStructures, j.Point, p.junction, nil, nil, PurposePull, ListText(p.links))
+			continue
+		}
+		if p.lateral {
+			add(LayerStructures, p.lat.PointAt(p.offM), nil, p.span, round1(p.offM), PurposePull, ListText(p.links))
 			continue
 		}
 		sp, ok := net.Span(p.span)
@@ -371,6 +386,10 @@ type pullPoint struct {
 	junction, span string
 	offM           float64
 	links          []string
+	// lateral: the point is on a counted lateral (drawn as lat), offM metres from its
+	// building; span is then "lateral of" and the entrance.
+	lateral bool
+	lat     geo.Span
 }
 
 // addedPullPoints places the intermediate pull points of the estimate's pulls (the ends of
@@ -415,7 +434,23 @@ func addedPullPoints(r *route.Result) []pullPoint {
 			}
 			var k key
 			pp := pullPoint{}
-			if j := slices.IndexFunc(cum, func(c float64) bool { return math.Abs(end.x-c) < 0.01 }); j > 0 && j < len(cum)-1 {
+			if end.x < -0.01 || end.x > cum[len(cum)-1]+0.01 {
+				// On a counted lateral pulled with the leg (estimate.PullSection.Lateral): the
+				// estimate named it by the lateral and metres from its building.
+				pt, b := p.From, l.Link.To
+				if end.x != p.StartM {
+					pt = p.To
+				}
+				if end.x > 0 {
+					b = l.Link.From
+				}
+				for _, en := range r.Site.Net.EntrancesOf(b) {
+					if en.ID == p.Lateral {
+						pp.lateral, pp.lat = true, geo.Span{Line: en.Lateral, LengthM: en.LateralM}
+					}
+				}
+				k, pp.span, pp.offM = key{span: pt.Span, m: math.Round(pt.AtM)}, pt.Span, pt.AtM
+			} else if j := slices.IndexFunc(cum, func(c float64) bool { return math.Abs(end.x-c) < 0.01 }); j > 0 && j < len(cum)-1 {
 				k, pp.junction = key{junction: juncs[j]}, juncs[j]
 			} else if j < 0 {
 				q, _ := slices.BinarySearch(cum, end.x)

@@ -706,8 +706,12 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 	if len(of) > 0 {
 		bored = " (" + strings.Join(of, "; ") + ")"
 	}
-	fmt.Fprintf(w, "construction: new trench %s%s, added duct %s, %s where new pathway joins, %d along new construction, %d for added pull points; %s used\n",
-		length(c.NewM), bored, length(c.AddedDuctM), Counted(len(c.NewJunctions), "handhole", "handholes"), len(c.RunHandholes), e.AddedPullPoints,
+	taps := ""
+	if len(c.TapJunctions) > 0 {
+		taps = fmt.Sprintf(", %d where laterals tap a duct", len(c.TapJunctions))
+	}
+	fmt.Fprintf(w, "construction: new trench %s%s, added duct %s, %s where new pathway joins, %d along new construction%s, %d for added pull points; %s used\n",
+		length(c.NewM), bored, length(c.AddedDuctM), Counted(len(c.NewJunctions), "handhole", "handholes"), len(c.RunHandholes), taps, e.AddedPullPoints,
 		Counted(len(c.Entrances), "building entrance", "building entrances"))
 	if len(e.Pulls) > 0 {
 		hi := e.Pulls[0]
@@ -844,8 +848,14 @@ func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
 	switch {
 	case r.Hub == "":
 		fmt.Fprintln(w, "hub         none (no building has role mc and none was named)")
-	case len(r.Unreachable) == 0:
+	case len(r.Unreachable) == 0 && len(r.ThroughOnly) == 0 && len(r.Served) == 0:
 		fmt.Fprintf(w, "hub         %s: every building can reach it\n", t(r.Hub))
+	case len(r.Unreachable) == 0 && len(r.ThroughOnly) == 0:
+		fmt.Fprintf(w, "hub         %s: every building can reach its cross-connect in the plan; %s the hub only through another building (below)\n", t(r.Hub),
+			Counted(len(r.Served), "building reaches", "buildings reach"))
+	case len(r.Unreachable) == 0:
+		fmt.Fprintf(w, "hub         %s: %s it only through another building (below); every other building can reach it\n", t(r.Hub),
+			Counted(len(r.ThroughOnly), "building reaches", "buildings reach"))
 	default:
 		fmt.Fprintf(w, "hub         %s: %s cannot reach it: %s\n", t(r.Hub), Counted(len(r.Unreachable), "building", "buildings"), escape.TerminalList(r.Unreachable))
 		for _, why := range r.CutOff {
@@ -855,6 +865,13 @@ func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
 	if len(r.ThroughOnly) > 0 {
 		fmt.Fprintf(w, "through     %s the hub only through another building routes may not cross: %s\n",
 			Counted(len(r.ThroughOnly), "building reaches", "buildings reach"), escape.TerminalList(r.ThroughOnly))
+		for _, why := range r.Through {
+			fmt.Fprintf(w, "  no route: %s\n", t(InUnits(opt, why)))
+		}
+	}
+	if len(r.Served) > 0 {
+		fmt.Fprintf(w, "through     %s the hub only through another building, and the plan serves it from a cross-connect it reaches: %s\n",
+			Counted(len(r.Served), "building reaches", "buildings reach"), escape.TerminalList(r.Served))
 	}
 	// The entrances, one line per building that has more than one or a declared one.
 	var multi []string

@@ -336,6 +336,17 @@ func buildMap(ctx context.Context, r *route.Result, opt Options, med map[string]
 		m.Turns = append(m.Turns, mark{X: num(q.X), Y: num(q.Y), Shape: "square", Class: "st turn",
 			Title: h.Junction + ": handhole to add, where new pathway joins the network there"})
 	}
+	if r.Estimate != nil {
+		for _, en := range r.Estimate.Construction.Entrances {
+			j, ok := net.Junction(en.Tap)
+			if en.Tap == "" || !ok {
+				continue
+			}
+			q := p.at(j.Point[0], j.Point[1])
+			m.Turns = append(m.Turns, mark{X: num(q.X), Y: num(q.Y), Shape: "square", Class: "st turn",
+				Title: en.Tap + ": handhole to add, where the lateral of " + en.Entrance + " taps a duct"})
+		}
+	}
 	for _, e := range net.Entrances {
 		j, ok := net.Junction(e.Junction)
 		if !ok {

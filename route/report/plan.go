@@ -845,7 +845,7 @@ func legendOf(r *route.Result, med map[string]mediumInfo, order []string, m mapV
 		lg.Structures = append(lg.Structures, legendItem{Shape: structureShape(t), Class: "st", Label: t})
 	}
 	if len(m.Turns) > 0 {
-		lg.Structures = append(lg.Structures, legendItem{Shape: "square", Class: "st turn", Label: "handhole to add (a route turns between pathways, or new pathway joins)"})
+		lg.Structures = append(lg.Structures, legendItem{Shape: "square", Class: "st turn", Label: "handhole to add (a route turns between pathways, new pathway joins, or a lateral taps a duct)"})
 	}
 	if len(m.Entrances) > 0 {
 		lg.Structures = append(lg.Structures, legendItem{Shape: "dot", Class: "ent", Label: "building entrance"})
@@ -1000,7 +1000,7 @@ func pullRows(r *route.Result, opt Options) ([]pullRow, int, listed) {
 		if p.AddedTo {
 			added = append(added, "end")
 		}
-		row := pullRow{Link: l.Link.ID, Leg: l.Name, Seq: p.Seq, From: p.From.Text(opt.lengthU), To: p.To.Text(opt.lengthU), Spans: strings.Join(p.Spans, " "),
+		row := pullRow{Link: l.Link.ID, Leg: l.Name, Seq: p.Seq, From: p.From.Text(opt.lengthU), To: p.To.Text(opt.lengthU), Spans: p.SpansText(),
 			Length: opt.length(p.LengthM), Bends: strconv.FormatFloat(p.BendDeg, 'f', 0, 64) + "°", Feed: p.FeedAt.Text(opt.lengthU),
 			Tension: force(p.TensionN), Other: force(p.OtherN), Rated: force(p.RatedN),
 			BarW: num(math.Min(100*ratio(p), 100)), Pct: pct(ratio(p)), SWBP: sidewall(p.SWBPNPerM),

@@ -189,6 +189,9 @@ func TestPlanContent(t *testing.T) {
 		// Legend entries the demo needs: tunnel, pole line, proposed trench, high EMI, structures.
 		"existing utility tunnel", "existing aerial (pole line)", "proposed trench, not used (dashed)", "high EMI (halo)",
 		"maintenance-hole", "handhole", "pull-box",
+		// The demo's laterals that tap a duct (LEC, MUS, RSA) are marked where the plan adds
+		// their handholes, and their pulls run along the lateral.
+		": handhole to add, where the lateral of LEC:1 taps a duct", "lateral of LEC:1",
 	} {
 		if !strings.Contains(html, want) {
 			t.Errorf("demo report lacks %q", want)

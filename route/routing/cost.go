@@ -273,6 +273,9 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 				e.LengthM, e.CableM = lat, items.Wasted(d, lat)
 				e.PerCableCents = m.cents(items.LegEnds(0, 0, lat)...)
 				e.Flags = lay.classBit[lateralClass]
+				if s.TapOf(x.entry) {
+					e.PerCableCents += m.cents(items.TapCrew(m.prices)...)
+				}
 			}
 			if loop := items.LoopM(s, d, x.junction) / 2; loop > 0 {
 				// The other half of the slack loop at an entrance that is a structure: the
@@ -300,7 +303,7 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 	// An entrance of a building with several is paid once when a route uses it (those of a
 	// building with one are paid whatever the routes: Routed.ConstantCents).
 	for _, en := range lay.entrances {
-		c, err := m.entranceCents(en.building, en.entry)
+		c, err := m.entranceCents(en.building, en.entry, s.TapOf(en.entry))
 		if err != nil {
 			return nil, nil, nil, err
 		}
@@ -309,7 +312,7 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 		}
 	}
 	for _, b := range slices.Sorted(maps.Keys(lay.endEntry)) {
-		if _, err := m.entranceCents(b, lay.endEntry[b]); err != nil {
+		if _, err := m.entranceCents(b, lay.endEntry[b], s.TapOf(lay.endEntry[b])); err != nil {
 			return nil, nil, nil, err // a counted lateral the book cannot price as new construction
 		}
 	}
@@ -356,6 +359,11 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link) (optimize.Demand,
 	// ends its spans leave out, and both cable ends prepared.
 	pull, entered := crewHalves(s, src.Junction, dst.Junction) // "" at an end with several entrances: none
 	endItems = append(endItems, items.AtJunctions(m.prices, 1+pull, entered)...)
+	for _, e := range []geo.Entry{src, dst} {
+		if s.TapOf(e) { // a lateral tapping a duct: its handhole is a pull point more
+			endItems = append(endItems, items.TapCrew(m.prices)...)
+		}
+	}
 	endItems = append(endItems, items.Crew(m.prices, media.CrewCableEndPrep, 2)...)
 	endItems = append(endItems, m.bidItems(media.BidBases{CableEnds: 2, Legs: 1})...)
 	endBid := m.bidPer(media.BidBases{Structures: 1}, entered)
@@ -512,11 +520,11 @@ func (m *Model) bidItems(bases media.BidBases) []media.Quantity {
 }
 
 // entranceCents is what using a building entrance costs whatever the cables in it: its entry
-// and its counted lateral built (items.Entrance), with the bid items per metre of new buried
+// and its counted lateral built, with its tap handhole when tap (items.Entrance), with the bid items per metre of new buried
 // work along the lateral.
-func (m *Model) entranceCents(building string, e geo.Entry) (int64, error) {
+func (m *Model) entranceCents(building string, e geo.Entry, tap bool) (int64, error) {
 	lateralM := e.LateralM
-	work := items.Entrance(m.prices, m.design, lateralM, e.Built)
+	work := items.Entrance(m.prices, m.design, lateralM, e.Built, tap)
 	if err := m.prices.Check(items.KeysOf(work)); err != nil {
 		if lateralM > 0 {
 			return 0, fmt.Errorf("building %s, entrance %s: its counted lateral of %.1f m is built as new construction: %w", building, e.ID, lateralM, err)

@@ -62,6 +62,9 @@ type EntranceUse struct {
 	LateralM float64 // its counted lateral, built as new construction (items.Entrance)
 	Single   bool    // the building's only entrance
 	Built    bool    // the entrance is there already (geo.Entry.Built): its cables are only firestopped
+	// Tap is the junction where the counted lateral taps the side of a duct, with a handhole
+	// built there (site.Site.TapOf); "" when it does not.
+	Tap string
 }
 
 // Handhole is a handhole the plan adds at a junction without a structure.
@@ -154,10 +157,10 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 	for _, l := range legs {
 		r.Legs = append(r.Legs, l...)
 	}
-	r.Entrances = entrancesUsed(lay, r.Legs)
+	r.Entrances = entrancesUsed(s, lay, r.Legs)
 	for _, e := range r.Entrances {
 		if e.Single {
-			c, _ := m.entranceCents(e.Building, geo.Entry{ID: e.Entrance, Access: geo.Access{LateralM: e.LateralM}, Built: e.Built}) // checked by problem
+			c, _ := m.entranceCents(e.Building, geo.Entry{ID: e.Entrance, Access: geo.Access{LateralM: e.LateralM}, Built: e.Built}, e.Tap != "") // checked by problem
 			r.ConstantCents += c
 		}
 	}
@@ -169,7 +172,7 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 }
 
 // entrancesUsed lists the entrances feasible legs use, by building then entrance ID.
-func entrancesUsed(lay *layout, legs []Leg) []EntranceUse {
+func entrancesUsed(s *site.Site, lay *layout, legs []Leg) []EntranceUse {
 	seen := map[[2]string]bool{}
 	var out []EntranceUse
 	use := func(b, id string) {
@@ -178,12 +181,12 @@ func entrancesUsed(lay *layout, legs []Leg) []EntranceUse {
 		}
 		seen[[2]string{b, id}] = true
 		if e, ok := lay.endEntry[b]; ok && e.ID == id {
-			out = append(out, EntranceUse{Building: b, Entrance: id, LateralM: e.LateralM, Single: true, Built: e.Built})
+			out = append(out, EntranceUse{Building: b, Entrance: id, LateralM: e.LateralM, Single: true, Built: e.Built, Tap: tapOf(s, e)})
 			return
 		}
 		for _, en := range lay.entrances {
 			if en.building == b && en.entry.ID == id {
-				out = append(out, EntranceUse{Building: b, Entrance: id, LateralM: en.entry.LateralM, Built: en.entry.Built})
+				out = append(out, EntranceUse{Building: b, Entrance: id, LateralM: en.entry.LateralM, Built: en.entry.Built, Tap: tapOf(s, en.entry)})
 				return
 			}
 		}
@@ -206,4 +209,12 @@ func entrancesUsed(lay *layout, legs []Leg) []EntranceUse {
 func Problem(s *site.Site, m *Model, links []site.Link) (*optimize.Problem, error) {
 	prob, _, _, err := problem(s, m, links, m.runsOf(s))
 	return prob, err
+}
+
+// tapOf is the junction where entry e's counted lateral taps a duct (site.Site.TapOf), or "".
+func tapOf(s *site.Site, e geo.Entry) string {
+	if s.TapOf(e) {
+		return e.Junction
+	}
+	return ""
 }

@@ -1,6 +1,7 @@
 package site
 
 import (
+	"slices"
 	"sort"
 	"spanwright/geo"
 
@@ -22,6 +23,10 @@ type CheckReport struct {
 	// ThroughOnly lists the buildings that reach the hub only through another building routes
 	// may not cross (Site.ThroughOnly).
 	ThroughOnly []string
+	Through     []string // for each of ThroughOnly, in its order, why and what would serve it (Site.Through)
+	// Served lists the buildings that reach the hub only through another building but that
+	// a plan's links serve from a cross-connect they reach (ThroughFor); nil without a plan.
+	Served []string
 	// Entrances lists every building's entrances, by building then entrance ID.
 	Entrances []geo.Entry
 	// Turns lists the junctions where a turn from one pathway into another needs a structure
@@ -96,6 +101,9 @@ func (s *Site) Check(hub string) CheckReport {
 			r.CutOff = append(r.CutOff, s.CutOff(b, hub))
 		}
 		r.ThroughOnly = s.ThroughOnly(hub)
+		for _, b := range r.ThroughOnly {
+			r.Through = append(r.Through, s.Through(b, hub))
+		}
 	}
 	r.Entrances = s.Net.Entrances
 	r.Turns = s.TurnsNeedingStructure()
@@ -106,4 +114,30 @@ func (s *Site) Check(hub string) CheckReport {
 		r.Warnings = append(r.Warnings, w.File+": "+w.Feature+": "+w.Message)
 	}
 	return r
+}
+
+// ThroughFor narrows the report's buildings reached only through another building to what a
+// plan of links will meet: each building a link serves (its To) that reaches the link's
+// cross-connect (From) only through a building routes may not cross, with the reason for that
+// link (Through). A building served from an ic it reaches directly, or served by no link, is
+// no problem of the plan.
+func (s *Site) ThroughFor(r *CheckReport, links []Link) {
+	before := r.ThroughOnly
+	r.ThroughOnly, r.Through = nil, nil
+	defer func() {
+		for _, b := range before {
+			if !slices.Contains(r.ThroughOnly, b) && slices.ContainsFunc(links, func(l Link) bool { return l.To == b }) {
+				r.Served = append(r.Served, b)
+			}
+		}
+	}()
+	for _, l := range links {
+		if slices.Contains(r.ThroughOnly, l.To) || !s.Joined(l.To, l.From) {
+			continue // listed once; a cut-off building is Unreachable's
+		}
+		if seen, _ := s.search(l.To, l.From); !seen.any(s, s.Net.EntrancesOf(l.From)) {
+			r.ThroughOnly = append(r.ThroughOnly, l.To)
+			r.Through = append(r.Through, s.Through(l.To, l.From))
+		}
+	}
 }

@@ -147,10 +147,27 @@ func (s *Site) ThroughOnly(hub string) []string {
 // Through says in words why building b reaches the hub only through other buildings: which
 // buildings stand in the way, and how routes may cross one. It is the reason every leg to b
 // carries when no route reaches it.
+//
+// It ends with what would let a route through, as the campus stands: transit: true on the
+// buildings in the way when their pathways meet at one point inside them (the search run
+// again with them open reaches the hub), else that transit alone would not do and a pathway
+// must be drawn inside them; a pathway to b that passes no building; or serving b from a
+// building in the way (role ic, and a link from it).
 func (s *Site) Through(b, hub string) string {
 	_, in := s.search(b, hub)
+	list := strings.Join(in, ", ")
+	them, one := "them", "one of them"
+	if len(in) == 1 {
+		them, one = in[0], in[0]
+	}
+	transit := fmt.Sprintf("setting %s: true on %s lets routes through where its pathways meet", geo.PropTransit, them)
+	if seen, _ := s.search(b, hub, in...); !seen.any(s, s.Net.EntrancesOf(hub)) {
+		transit = fmt.Sprintf("%s: true on %s would not do, its pathways do not meet at one point inside it: draw a tray or tunnel inside it between its entrances",
+			geo.PropTransit, them)
+	}
 	return fmt.Sprintf("building %s reaches %s only through %s: a route crosses a building only along a pathway drawn inside it (a tunnel or tray), "+
-		"or where pathways meet at one point inside it and it has the property %s: true", b, hub, strings.Join(in, ", "), geo.PropTransit)
+		"or where pathways meet at one point inside it and it has the property %s: true; to serve %s, %s; or draw a pathway to %s that passes no building; "+
+		"or serve it from %s (role ic, and a link from it)", b, hub, list, geo.PropTransit, b, transit, b, one)
 }
 
 // Apart says why no route joins buildings a and b, when the network is the cause: a is cut
@@ -171,10 +188,11 @@ func (s *Site) Apart(a, b string) (string, bool) {
 // spans, between the entrances of from and of the hub (a route may start at any of them), and
 // through a junction inside another building only when that building allows transit. It
 // returns the junctions it reached and, sorted, the other buildings whose entrances it reached.
-func (s *Site) search(from, hub string) (reached, []string) {
+// The buildings in also are passed as if they allowed transit (what setting it would do).
+func (s *Site) search(from, hub string, also ...string) (reached, []string) {
 	open := func(b string) bool {
 		t, ok := s.Net.TransitOf(b)
-		return b == from || b == hub || (ok && t.Allowed)
+		return b == from || b == hub || (ok && t.Allowed) || slices.Contains(also, b)
 	}
 	adj := s.spanAdjacency()
 	// Entrances of from and of the hub are linked in a chain, as they are listed.

@@ -94,3 +94,41 @@ func (s *Site) JoinsNetwork(j string) bool {
 	k, ok := s.junction[j]
 	return !ok || s.carried == nil || !s.carried[k]
 }
+
+// Tap reports whether a counted lateral that joins the network at junction j taps the side of
+// a duct there: no structure stands at j and a duct pathway runs on through it (two span ends
+// or more, one of them a duct's). A new duct cannot be joined into the side of one in the
+// ground, and the cable turns from the lateral into the duct there, so the plan builds a
+// handhole at the tap (common practice, no published source), a pull point like any
+// structure: the lateral is pulled on its own, and its turn is taken inside the handhole.
+// At a structure the lateral ends in it; at a duct's dangling end it carries the duct on.
+func (s *Site) Tap(j string) bool {
+	m, ok := s.Net.MeetingAt(j)
+	if !ok || m.Structure || m.Degree < 2 {
+		return false
+	}
+	for _, id := range m.Spans {
+		if sp, ok := s.Net.Span(id); ok && sp.Type == geo.TypeDuct {
+			return true
+		}
+	}
+	return false
+}
+
+// TapOf reports whether entry e reaches its building by a counted lateral that taps a duct
+// (Tap at its junction): the lateral's handhole is part of using the entrance (items.Entrance).
+func (s *Site) TapOf(e geo.Entry) bool { return e.LateralM > 0 && s.Tap(e.Junction) }
+
+// LegTaps lists the junctions where the laterals of the entrances a leg uses, id to in building
+// to and from in building from, tap a duct (TapOf): the served end's first.
+func (s *Site) LegTaps(to, entranceTo, from, entranceFrom string) []string {
+	var out []string
+	for _, end := range [][2]string{{to, entranceTo}, {from, entranceFrom}} {
+		for _, e := range s.Net.EntrancesOf(end[0]) {
+			if e.ID == end[1] && s.TapOf(e) {
+				out = append(out, e.Junction)
+			}
+		}
+	}
+	return out
+}

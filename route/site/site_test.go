@@ -248,8 +248,9 @@ func TestPlenumRoute(t *testing.T) {
 // factsCampus is a street duct S along y = 0 from x = 0 to 300 m on the pull grid; A (the hub)
 // is joined to it by lateral LA teeing off at (50, 0), where no structure is; B by lateral LB
 // at (150, 0), where handhole HH is; C is joined only by duct DC from inside B to inside C;
-// island I's duct DI ends 1 m short of S's end.
-func factsCampus(t *testing.T) *site.Site {
+// island I's duct DI ends 1 m short of S's end. DC starts at x = dcFromX, inside B: at 150
+// where LB ends (the two meet at one point inside B), or elsewhere in B (they do not).
+func factsCampus(t *testing.T, dcFromX float64) *site.Site {
 	t.Helper()
 	duct := func(id string, pts ...float64) string {
 		var c []string
@@ -260,7 +261,7 @@ func factsCampus(t *testing.T) *site.Site {
 	}
 	f := []string{testsite.Box("A", "mc", 50, 25), testsite.Box("B", "", 150, 25), testsite.Box("C", "", 250, 25), testsite.Box("I", "", 400, 25),
 		duct("S", 0, 0, 50, 0, 150, 0, 300, 0), duct("LA", 50, 0, 50, 20), duct("LB", 150, 0, 150, 20),
-		duct("DC", 155, 20, 245, 20), duct("DI", 400, 20, 400, 0, 301, 0),
+		duct("DC", dcFromX, 20, 245, 20), duct("DI", 400, 20, 400, 0, 301, 0),
 		fmt.Sprintf(`{"type":"Feature","properties":{"kind":"structure","id":"HH","type":"handhole"},"geometry":{"type":"Point","coordinates":[%.7f,%.7f]}}`, testsite.X(150), testsite.Y(0))}
 	c, err := geo.Parse("facts.geojson", []byte(`{"type":"FeatureCollection","features":[`+strings.Join(f, ",")+`]}`))
 	if err != nil {
@@ -279,7 +280,7 @@ func factsCampus(t *testing.T) *site.Site {
 // near miss that would join it.
 func TestSiteFacts(t *testing.T) {
 	t.Parallel()
-	s := factsCampus(t)
+	s := factsCampus(t, 155)
 	var tee, hh string
 	for _, m := range s.Net.Meetings {
 		if slices.Contains(m.Pathways, "LA") && slices.Contains(m.Pathways, "S") {
@@ -298,6 +299,18 @@ func TestSiteFacts(t *testing.T) {
 	}
 	if got, want := s.Through("C", "A"), `building C reaches A only through B: a route crosses a building only along a pathway drawn inside it`; !strings.HasPrefix(got, want) {
 		t.Errorf("through reason:\n got %s\nwant %s…", got, want)
+	}
+	// LB and DC reach B at separate points: transit: true on B would not let a route through
+	// (the search with B open still stops at its entrances), so the reason says to draw a
+	// pathway inside it; with DC starting where LB ends, transit: true would do.
+	const apart = "; to serve C, transit: true on B would not do, its pathways do not meet at one point inside it: draw a tray or tunnel inside it between its entrances; " +
+		"or draw a pathway to C that passes no building; or serve it from B (role ic, and a link from it)"
+	if got := s.Through("C", "A"); !strings.HasSuffix(got, apart) {
+		t.Errorf("through reason, pathways apart in B:\n got %s\nwant …%s", got, apart)
+	}
+	const meet = "; to serve C, setting transit: true on B lets routes through where its pathways meet; or draw a pathway to C"
+	if got := factsCampus(t, 150).Through("C", "A"); !strings.Contains(got, meet) {
+		t.Errorf("through reason, pathways meeting in B:\n got %s\nwant …%s…", got, meet)
 	}
 	if got := s.Unreachable("A"); !slices.Equal(got, []string{"I"}) {
 		t.Fatalf("unreachable: %q, want [I]", got)
