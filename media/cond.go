@@ -6,6 +6,8 @@ import (
 	"strings"
 	"unicode"
 	"unicode/utf8"
+
+	"spanwright/geo/input"
 )
 
 // The condition language of rule files. A condition is an expression over facts that must
@@ -446,31 +448,11 @@ func unknownFactMsg(name string) string {
 func closestFact(name string) string {
 	best, bestD := "", 3
 	for _, f := range facts {
-		if d := editDistance(name, f.Name); d < bestD {
+		if d := input.EditDistance(name, f.Name); d < bestD {
 			best, bestD = f.Name, d
 		}
 	}
 	return best
-}
-
-func editDistance(a, b string) int {
-	prev := make([]int, len(b)+1)
-	cur := make([]int, len(b)+1)
-	for j := range prev {
-		prev[j] = j
-	}
-	for i := 1; i <= len(a); i++ {
-		cur[0] = i
-		for j := 1; j <= len(b); j++ {
-			cost := 1
-			if a[i-1] == b[j-1] {
-				cost = 0
-			}
-			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
-		}
-		prev, cur = cur, prev
-	}
-	return prev[len(b)]
 }
 
 // template is a parsed reason: text with {fact} placeholders ("{{" and "}}" for braces).

@@ -21,7 +21,7 @@ func TestDidYouMean(t *testing.T) {
 			t.Errorf("%s: got %q, want %q", c.key, got, c.want)
 		}
 	}
-	if d := editDistance("kitten", "sitting"); d != 3 { // the textbook example
-		t.Errorf("editDistance(kitten, sitting) = %d, want 3", d)
+	if d := EditDistance("kitten", "sitting"); d != 3 { // the textbook example
+		t.Errorf("EditDistance(kitten, sitting) = %d, want 3", d)
 	}
 }

@@ -393,7 +393,7 @@ func (mg *merger) pairs(n *yaml.Node) [][2]*yaml.Node {
 func DidYouMean[V any](key string, known map[string]V) string {
 	best, bestD, ties := "", max(1, len(key)/3)+1, 0
 	for _, k := range slices.Sorted(maps.Keys(known)) {
-		d := editDistance(key, k)
+		d := EditDistance(key, k)
 		if strings.HasPrefix(k, key+"_") {
 			d = 1
 		}
@@ -410,8 +410,9 @@ func DidYouMean[V any](key string, known map[string]V) string {
 	return " did you mean " + best + "?"
 }
 
-// editDistance is the Levenshtein distance between a and b, in bytes.
-func editDistance(a, b string) int {
+// EditDistance is the Levenshtein distance between a and b, in bytes: the one measure of how
+// near a misspelt name is (DidYouMean here, the rule language's unknown facts in media).
+func EditDistance(a, b string) int {
 	prev := make([]int, len(b)+1)
 	cur := make([]int, len(b)+1)
 	for j := range prev {

@@ -327,6 +327,21 @@ type legPulls struct {
 	added    []string // the intermediate pull points it adds, keyed by place
 }
 
+// ends records the pull points section sec adds at its ends (keyed fromKey and toKey) and
+// the end ps is fed from, the one with the lower tension, with the other way's tension.
+func (e *legPulls) ends(ps *PullSection, sec *install.Section, fromKey, toKey string) {
+	if sec.StartAdded {
+		e.added = append(e.added, fromKey)
+	}
+	if sec.EndAdded {
+		e.added = append(e.added, toKey)
+	}
+	ps.FeedAt, ps.OtherN = ps.From, sec.Reverse.MaxTensionN
+	if sec.Best == install.Reverse {
+		ps.FeedAt, ps.OtherN = ps.To, sec.Forward.MaxTensionN
+	}
+}
+
 // pullPlan plans the pulls of leg i: its sections, its warnings and the intermediate pull
 // points it adds. It changes nothing of r, so legs may be planned side by side.
 func (r *run) pullPlan(i int) legPulls {
@@ -440,16 +455,7 @@ func (r *run) pullPlan(i int) legPulls {
 				ps.From, fromKey = at(en.LateralM - sec.StartM)
 				ps.To, toKey = at(en.LateralM - sec.StartM - sec.LengthM)
 			}
-			if sec.StartAdded {
-				e.added = append(e.added, fromKey)
-			}
-			if sec.EndAdded {
-				e.added = append(e.added, toKey)
-			}
-			ps.FeedAt, ps.OtherN = ps.From, sec.Reverse.MaxTensionN
-			if sec.Best == install.Reverse {
-				ps.FeedAt, ps.OtherN = ps.To, sec.Forward.MaxTensionN
-			}
+			e.ends(&ps, &sec, fromKey, toKey)
 			if !sec.WithinRating {
 				e.warnings = append(e.warnings, fmt.Sprintf("%s %s: pull %d from %s to %s: %s; reroute or add a structure",
 					leg.Link.ID, leg.Name, seq, ps.From, ps.To, sec.Reason()))
@@ -558,16 +564,7 @@ func (r *run) pullPlan(i int) legPulls {
 			var fromKey, toKey string
 			ps.From, fromKey = name(start)
 			ps.To, toKey = name(end)
-			if sec.StartAdded {
-				e.added = append(e.added, fromKey)
-			}
-			if sec.EndAdded {
-				e.added = append(e.added, toKey)
-			}
-			ps.FeedAt, ps.OtherN = ps.From, sec.Reverse.MaxTensionN
-			if sec.Best == install.Reverse {
-				ps.FeedAt, ps.OtherN = ps.To, sec.Forward.MaxTensionN
-			}
+			e.ends(&ps, &sec, fromKey, toKey)
 			for _, st := range sec.Steps {
 				if st.Kind == install.KindBend && (ps.BendRadiusM == 0 || st.RadiusM < ps.BendRadiusM) {
 					ps.BendRadiusM = st.RadiusM
