@@ -427,31 +427,14 @@ func (f *footprint) passedM(p *part) float64 {
 	var tsArr [8]float64
 	in := inArr[:0]
 	for i := 1; i < len(p.xy); i++ {
-		a, c := p.xy[i-1], p.xy[i]
-		if math.Max(a.x, c.x) < f.lo.x || math.Min(a.x, c.x) > f.hi.x || math.Max(a.y, c.y) < f.lo.y || math.Min(a.y, c.y) > f.hi.y {
-			continue
-		}
-		ts := append(tsArr[:0], 0, 1)
-		for _, poly := range f.rings {
-			for _, ring := range poly {
-				for k := 1; k < len(ring); k++ {
-					if t, _, ok := segIntersect(a, c, ring[k-1], ring[k]); ok {
-						ts = append(ts, t)
-					}
-				}
+		f.insideParts(p.xy[i-1], p.xy[i], tsArr[:0], func(t0, t1 float64) {
+			from, to := p.along(i-1, t0), p.along(i-1, t1)
+			if n := len(in); n > 0 && from-in[n-1].to <= 1e-9 {
+				in[n-1].to = to // one stretch inside across a vertex
+				return
 			}
-		}
-		sort.Float64s(ts)
-		for k := 1; k < len(ts); k++ {
-			if ts[k] > ts[k-1] && f.contains(lerp(a, c, (ts[k-1]+ts[k])/2)) {
-				from, to := p.along(i-1, ts[k-1]), p.along(i-1, ts[k])
-				if n := len(in); n > 0 && from-in[n-1].to <= 1e-9 {
-					in[n-1].to = to // one stretch inside across a vertex
-					continue
-				}
-				in = append(in, span{from, to})
-			}
-		}
+			in = append(in, span{from, to})
+		})
 	}
 	total := p.cum[len(p.cum)-1]
 	var m float64
@@ -533,12 +516,20 @@ func (b *builder) inside(f *footprint, r [2]int) bool {
 	return (typ == TypeTunnel || typ == TypeTray) && in > all/2
 }
 
-// insideLen is the projected length of segment ab inside footprint f.
+// insideLen is the projected length of segment ac inside footprint f.
 func (f *footprint) insideLen(a, c vec) float64 {
+	l, sum := a.dist(c), 0.0
+	f.insideParts(a, c, nil, func(t0, t1 float64) { sum += (t1 - t0) * l })
+	return sum
+}
+
+// insideParts calls each, in order along segment ac, with the fractions t0 < t1 of every
+// stretch of it inside footprint f (between two crossings of its rings); ts is scratch.
+func (f *footprint) insideParts(a, c vec, ts []float64, each func(t0, t1 float64)) {
 	if math.Max(a.x, c.x) < f.lo.x || math.Min(a.x, c.x) > f.hi.x || math.Max(a.y, c.y) < f.lo.y || math.Min(a.y, c.y) > f.hi.y {
-		return 0
+		return
 	}
-	ts := []float64{0, 1}
+	ts = append(ts[:0], 0, 1)
 	for _, poly := range f.rings {
 		for _, ring := range poly {
 			for i := 1; i < len(ring); i++ {
@@ -549,13 +540,11 @@ func (f *footprint) insideLen(a, c vec) float64 {
 		}
 	}
 	sort.Float64s(ts)
-	l, sum := a.dist(c), 0.0
 	for i := 1; i < len(ts); i++ {
 		if ts[i] > ts[i-1] && f.contains(lerp(a, c, (ts[i-1]+ts[i])/2)) {
-			sum += (ts[i] - ts[i-1]) * l
+			each(ts[i-1], ts[i])
 		}
 	}
-	return sum
 }
 
 // dangling warns about every pathway end that joins nothing (no other span, structure,
