@@ -1,15 +1,18 @@
 package report
 
 import (
-	"spanwright/route/output"
 	"strconv"
 	"strings"
+
+	"spanwright/media/install"
+	"spanwright/route/output"
 )
 
 // Options say how a report is rendered.
 type Options struct {
 	// Units is output.UnitsMetric (default) or output.UnitsImperial: lengths in the report's
-	// text, tables and scale bar. Losses stay in dB and fill in mm².
+	// text, tables and scale bar, diameters in inches. Losses stay in dB and fill in
+	// percent.
 	Units string
 }
 
@@ -37,6 +40,47 @@ func (o Options) sidewallUnit() string {
 		return "lbf/ft"
 	}
 	return "N/m"
+}
+
+// diameterUnit is the unit duct and cable diameters are shown in.
+func (o Options) diameterUnit() string {
+	if o.imperial() {
+		return "in"
+	}
+	return "mm"
+}
+
+// diameter formats a diameter in millimetres in the report's unit: whole millimetres above
+// 20 mm (a duct), else one decimal (a cable); inches with two decimals (1 in = 25.4 mm
+// exactly, NIST SP 811 B.8).
+func (o Options) diameter(mm float64) string {
+	if o.imperial() {
+		return strconv.FormatFloat(mm/install.MMPerIn, 'f', 2, 64)
+	}
+	if mm > 20 {
+		return strconv.FormatFloat(mm, 'f', 0, 64)
+	}
+	return strconv.FormatFloat(mm, 'f', 1, 64)
+}
+
+// diameters lists the cables' diameters with their unit, equal ones counted once in the
+// order they first come: "3 × 10.5, 12.0 mm" for three cables of 10.5 and one of 12.
+func (o Options) diameters(mm []float64) string {
+	var texts []string
+	count := map[string]int{}
+	for _, d := range mm {
+		t := o.diameter(d)
+		if count[t] == 0 {
+			texts = append(texts, t)
+		}
+		count[t]++
+	}
+	for i, t := range texts {
+		if n := count[t]; n > 1 {
+			texts[i] = strconv.Itoa(n) + " × " + t
+		}
+	}
+	return strings.Join(texts, ", ") + " " + o.diameterUnit()
 }
 
 // length formats metres in the report's unit with one decimal and thousands separators.

@@ -211,6 +211,7 @@ type planView struct {
 	PullPoints int
 	Force      string
 	Sidewall   string // the unit of sidewall pressure: N/m, or lbf/ft when imperial
+	Diameter   string // the unit of duct and cable diameters: mm, or in when imperial
 	Drivers    []driverRow
 	BOMLabel   string
 	Subtotal   string
@@ -473,7 +474,7 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 		v.HasEst = true
 		v.BOMLabel = e.BOM.Label
 		v.Subtotal = money(e.BOM.SubtotalCents)
-		v.Ducts, v.DuctsOver, v.DuctsListed = ductRows(e.Fill)
+		v.Ducts, v.DuctsOver, v.DuctsListed = ductRows(e.Fill, opt)
 		v.Pulls, v.PullsOver, v.PullsListed = pullRows(r, opt)
 		v.PullPoints = e.AddedPullPoints
 		for _, d := range s.CostDrivers {
@@ -481,7 +482,7 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 				Pct: strconv.FormatFloat(d.Pct, 'f', 1, 64) + " %"})
 		}
 	}
-	v.Force, v.Sidewall = opt.forceUnit(), opt.sidewallUnit()
+	v.Force, v.Sidewall, v.Diameter = opt.forceUnit(), opt.sidewallUnit(), opt.diameterUnit()
 	// Warnings are text made inside the model in metres (summary.json keeps them so): the
 	// report writes their lengths in its units, as it does the rule engine's reasons.
 	for _, w := range r.Warnings {
@@ -886,7 +887,7 @@ func present(drawn map[string]bool, items []legendItem) []legendItem {
 // ductRows lists the fill of every duct that holds cable on a span of limited capacity:
 // ducts over the NFPA 70 Chapter 9 Table 1 fill or at risk of a jam first, then by fill
 // relative to its limit, then by span and duct.
-func ductRows(fs []estimate.DuctFill) ([]ductRow, int, listed) {
+func ductRows(fs []estimate.DuctFill, opt Options) ([]ductRow, int, listed) {
 	list := append([]estimate.DuctFill(nil), fs...)
 	ratio := func(f estimate.DuctFill) float64 {
 		if f.AllowedPct <= 0 {
@@ -915,20 +916,16 @@ func ductRows(fs []estimate.DuctFill) ([]ductRow, int, listed) {
 		if f.Added {
 			duct += " (added)"
 		}
-		ods := make([]string, len(f.CablesODMM))
-		for k, od := range f.CablesODMM {
-			ods[k] = strconv.FormatFloat(od, 'f', 1, 64)
-		}
 		cables := strconv.Itoa(len(f.CablesODMM))
 		if f.Innerduct {
 			cables += " in innerduct"
 		}
-		if len(ods) > 0 {
-			cables += " (OD " + strings.Join(ods, ", ") + " mm)"
+		if len(f.CablesODMM) > 0 {
+			cables += " (OD " + opt.diameters(f.CablesODMM) + ")"
 		}
 		// The bar spans 0 to 100 % of the duct's area; the mark is the allowed fill.
 		w := math.Min(f.FillPct, 100)
-		row := ductRow{Span: f.Span, Pathway: f.PathwayID, Duct: duct, DuctID: strconv.FormatFloat(f.DuctIDMM, 'f', 0, 64),
+		row := ductRow{Span: f.Span, Pathway: f.PathwayID, Duct: duct, DuctID: opt.diameter(f.DuctIDMM),
 			Cables: cables, Fill: strconv.FormatFloat(f.FillPct, 'f', 1, 64) + " %", Allowed: strconv.FormatFloat(f.AllowedPct, 'f', 0, 64) + " %",
 			BarW: num(w), LimitX: num(math.Min(f.AllowedPct, 100)), Over: f.FillPct > f.AllowedPct, JamRisk: f.JamRisk, Bad: !f.OK}
 		if f.JamRatio > 0 {

@@ -458,3 +458,32 @@ func TestBillInUnitsWithSeparators(t *testing.T) {
 		t.Errorf("cost chart: contingency not labelled a markup with %q", share)
 	}
 }
+
+// TestDiametersInUnits: the duct fill table gives duct and cable diameters in the report's
+// units, equal cables counted once (a duct of 21 cables listed 21 diameters): millimetres,
+// or inches at 25.4 mm each (exactly, NIST SP 811 B.8).
+func TestDiametersInUnits(t *testing.T) {
+	t.Parallel()
+	metric, imperial := Options{}, Options{Units: output.UnitsImperial}
+	cases := []struct {
+		opt  Options
+		ods  []float64
+		want string
+	}{
+		{metric, []float64{10.5, 10.5, 10.5, 12}, "3 × 10.5, 12.0 mm"},
+		{metric, []float64{12, 10.5}, "12.0, 10.5 mm"},
+		{imperial, []float64{10.5, 10.5}, "2 × 0.41 in"},
+		{imperial, []float64{25.4}, "1.00 in"},
+	}
+	for _, tc := range cases {
+		if got := tc.opt.diameters(tc.ods); got != tc.want {
+			t.Errorf("%s %v: %q, want %q", tc.opt.Units, tc.ods, got, tc.want)
+		}
+	}
+	if got := metric.diameter(101.6); got != "102" {
+		t.Errorf("a 4 in duct in mm: %q, want 102", got)
+	}
+	if got := imperial.diameter(101.6); got != "4.00" {
+		t.Errorf("a 4 in duct in inches: %q, want 4.00", got)
+	}
+}
