@@ -714,6 +714,11 @@ func (b *builder) lateralPlace(f *footprint) place {
 	return best
 }
 
+// entranceOffM is how far a declared entrance may lie from its building's footprint before
+// it is warned of (common practice, no published source: a surveyed wall point is within a
+// metre of the drawn footprint).
+const entranceOffM = 1.0
+
 // planEntrance makes every declared entrance of the building a door (one off the pathways
 // joins the nearest place on one, within MaxLateralM, by a counted lateral) and chooses the
 // Access among them: one on a pathway (lowest junction ID), else the shortest lateral (to the
@@ -726,6 +731,19 @@ func (b *builder) planEntrance(bi int, bl Building, ents []int) accessPlan {
 		}
 	}
 	best, bestE, bestM := math.Inf(1), -1, -1
+	if f := &b.feet[bi]; !f.empty() {
+		// An entrance is where cables go through the building's wall. One declared away from
+		// the footprint (a mistyped coordinate, another building's id) ends every route
+		// there, the cable, the loss budget and the bill short of the building: say so.
+		for _, ei := range ents {
+			if d := f.distTo(b.mem[b.entMem[ei]].xy); d > entranceOffM {
+				e := b.c.Entrances[ei]
+				b.warns = append(b.warns, warnRec{e.Source, b.entIDs[ei], fmt.Sprintf(
+					"entrance %q of building %q is %.1f m from the building's footprint: routes to it end there, and the cable from it to the wall is not counted; move it to the wall, or check its building",
+					b.entIDs[ei], bl.ID, d)})
+			}
+		}
+	}
 	for _, ei := range ents {
 		if b.entOn[ei] {
 			b.doors[bi] = append(b.doors[bi], door{via: ViaEntrance, target: b.entMem[ei], entrance: ei})

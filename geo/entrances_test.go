@@ -209,3 +209,28 @@ func TestEntrancesIgnoreOrderNamesAndSplits(t *testing.T) {
 		t.Fatalf("split:\ngot  %v\nwant %v", got, want)
 	}
 }
+
+// TestEntranceAwayFromFootprint (a new user's trial: an entrance 2.5 km from its building
+// ended the link there without a word): a declared entrance more than entranceOffM from its
+// building's footprint is warned of, with its building and distance; one on the wall is not.
+func TestEntranceAwayFromFootprint(t *testing.T) {
+	t.Parallel()
+	c := Campus{
+		Buildings: []Building{box("B", 0, 0, 10)},
+		Pathways:  []Pathway{pw("S", ml(-100, -20, 100, -20)), pw("L", ml(0, -20, 0, -10)), pw("M", ml(25, -20, 25, 0))},
+		Entrances: []Entrance{
+			{Source: Source{File: "t.geojson", Index: 3}, ID: "WALL", Building: "B", Point: at(0, -10)},
+			{Source: Source{File: "t.geojson", Index: 4}, ID: "FAR", Building: "B", Point: at(25, 0)},
+		},
+	}
+	n := build(t, &c)
+	var got []string
+	for _, w := range n.Warnings {
+		if strings.Contains(w.Message, "from the building's footprint") {
+			got = append(got, w.Feature+": "+w.Message)
+		}
+	}
+	if len(got) != 1 || !strings.Contains(got[0], `entrance "FAR" of building "B" is 15.0 m from the building's footprint`) {
+		t.Errorf("warnings %q; want one, of FAR at 15.0 m", got)
+	}
+}
