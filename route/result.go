@@ -208,10 +208,16 @@ type prepared struct {
 // problem comes back together as one error.
 func prepare(s *site.Site, p *plan.Plan, eng *media.Engine) (prepared, error) {
 	hub, err := s.Hub(p)
+	var links []site.Link
+	var notes []string
+	var errs []error
 	if err != nil {
-		return prepared{}, err
+		// The links cannot be resolved without their hub; their buildings and rates can be
+		// checked all the same, so that every problem comes out in one run.
+		errs = append([]error{err}, s.UnknownBuildings(p)...)
+	} else {
+		links, notes, errs = s.Links(p, hub)
 	}
-	links, notes, errs := s.Links(p, hub)
 	errs = append(errs, p.CheckRates(eng.Catalog())...)
 	model, err := routing.NewModel(eng, p.Design)
 	if err != nil {

@@ -149,6 +149,9 @@ func TestBadInput(t *testing.T) {
 		{"plan and campus problems in one run", []string{"plan", "testdata/plans/typo_and_unknown.yaml", "--out", "x"}, exitInvalid,
 			[]string{`typo_and_unknown.yaml:4:3: design.slak_m: unknown key; did you mean slack_m?`, `typo_and_unknown.yaml:5:11: design.snap_m: want metres above 0`,
 				`typo_and_unknown.yaml:8:10: links[1].to: unknown building "GHOST"`, `typo_and_unknown.yaml:8:17: links[1].strandz: unknown key; did you mean strands?`}},
+		{"an unknown hub hides no other problem", []string{"plan", "testdata/plans/unknown_hub_and_more.yaml", "--out", "x"}, exitInvalid,
+			[]string{`unknown_hub_and_more.yaml:3:6: hub: want the id of a building, got "NOPE"`, `unknown_hub_and_more.yaml:6:10: links[1].to: unknown building "GHOST"`,
+				`unknown_hub_and_more.yaml:7:22: links[2].rate: rate "11G": no application runs at 11G`}},
 		{"check: plan and campus problems in one run", []string{"check", "testdata/plans/typo_and_unknown.yaml"}, exitInvalid,
 			[]string{`design.slak_m: unknown key`, `links[1].to: unknown building "GHOST"`}},
 		// A warning's length in the run's units: 0.5 m is 1.6 ft (1 ft = 0.3048 m exactly, NIST SP 811 B.8).

@@ -23,6 +23,33 @@ type Link struct {
 	Line       int  // that entry's line in the plan file, 0 for a default link
 }
 
+// unknownBuilding returns the problem of the plan's links[n] when its to or from names no
+// building of the site, else nil.
+func (s *Site) unknownBuilding(p *plan.Plan, n int) error {
+	ls := p.Links[n]
+	for _, end := range []struct{ key, id string }{{"to", ls.To}, {"from", ls.From}} {
+		if end.key == "from" && end.id == "" {
+			continue
+		}
+		if _, ok := s.building[end.id]; !ok {
+			return p.Problem(fmt.Sprintf("links[%d].%s", n, end.key), input.Errorf(input.ErrBadValue, "unknown building %q", end.id))
+		}
+	}
+	return nil
+}
+
+// UnknownBuildings returns the problems of the plan's links that name no building of the
+// site, as Links reports them: what can be said of the links when the hub is not known.
+func (s *Site) UnknownBuildings(p *plan.Plan) []error {
+	var errs []error
+	for n := range p.Links {
+		if err := s.unknownBuilding(p, n); err != nil {
+			errs = append(errs, err)
+		}
+	}
+	return errs
+}
+
 // Links resolves the plan's link list against the site: the defaults of the ANSI/TIA-568
 // hierarchical star (each ic to the hub, each served building to its nearest cross-connect
 // by network distance), then the plan's entries, which replace the default link of the
@@ -78,15 +105,9 @@ func (s *Site) Links(p *plan.Plan, hub string) ([]Link, []string, []error) {
 	skip := map[int]bool{}
 	for n, ls := range p.Links {
 		spec = n
-		if _, ok := s.building[ls.To]; !ok {
-			bad("to", "unknown building %q", ls.To)
+		if err := s.unknownBuilding(p, n); err != nil {
+			errs = append(errs, err)
 			continue
-		}
-		if ls.From != "" {
-			if _, ok := s.building[ls.From]; !ok {
-				bad("from", "unknown building %q", ls.From)
-				continue
-			}
 		}
 		if ls.To == hub && (ls.From == "" || ls.From == hub) {
 			// The entry is about the building's own link to its cross-connect, and the
