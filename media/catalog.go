@@ -118,6 +118,20 @@ type Size struct {
 	Count        int
 	ODMM         float64 // outside diameter, in mm (manufacturer-typical)
 	WeightKgPerM float64 // in kg/m (manufacturer-typical)
+	// MaxPullN is this size's rated pulling tension in newtons where it differs from its
+	// construction's (ANSI/TIA-568.3-D rates indoor-outdoor cable of 12 fibres or fewer
+	// lower); 0: the construction's MaxPullN. Read it through Construction.PullRatingN.
+	MaxPullN float64
+}
+
+// PullRatingN is the rated pulling tension of a cable of size s of this construction, in
+// newtons: the size's own rating when the catalog gives one, else the construction's. It is
+// the one rating the pulling plan checks and every output prints.
+func (c *Construction) PullRatingN(s Size) float64 {
+	if s.MaxPullN > 0 {
+		return s.MaxPullN
+	}
+	return c.MaxPullN
 }
 
 // AttenDBPerKm is the maximum cabled attenuation at wavelength nm, in dB/km, and whether the
@@ -389,6 +403,7 @@ type sizeYAML struct {
 	Count        int     `yaml:"count" range:"count"`
 	ODMM         float64 `yaml:"od_mm" range:"mm"`
 	WeightKgPerM float64 `yaml:"weight_kg_per_m" range:"kg-m"`
+	MaxPullN     float64 `yaml:"max_pull_n" range:"newtons"`
 }
 
 type applicationYAML struct {
@@ -750,7 +765,11 @@ func (c checker) construction(cy constructionYAML, item string, m *Medium, mediu
 			c.bad(sy.Pos, item, field+".weight_kg_per_m", ErrBadValue, "want kg/m > 0, got %g", sy.WeightKgPerM)
 			ok = false
 		}
-		k.Sizes = append(k.Sizes, Size{Count: sy.Count, ODMM: sy.ODMM, WeightKgPerM: sy.WeightKgPerM})
+		if sy.MaxPullN < 0 {
+			c.bad(sy.Pos, item, field+".max_pull_n", ErrBadValue, "want newtons > 0, or no max_pull_n for the construction's, got %g", sy.MaxPullN)
+			ok = false
+		}
+		k.Sizes = append(k.Sizes, Size{Count: sy.Count, ODMM: sy.ODMM, WeightKgPerM: sy.WeightKgPerM, MaxPullN: sy.MaxPullN})
 	}
 	sort.Slice(k.Sizes, func(i, j int) bool { return k.Sizes[i].Count < k.Sizes[j].Count })
 	if !ok {

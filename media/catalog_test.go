@@ -181,7 +181,7 @@ func TestCatalogMechanical(t *testing.T) {
 	}{
 		{"OSP fibre", "os2", "osp-loose-tube", 10, 20, 2670},      // ANSI/TIA-568.3-D: 10/20 x OD (from memory, seen in a secondary guide); 2670 N (seen as fragment)
 		{"OSP multimode", "om4", "osp-loose-tube", 10, 20, 2670},  // ANSI/TIA-568.3-D, as above
-		{"indoor/outdoor", "om3", "indoor-outdoor", 10, 20, 2670}, // ANSI/TIA-568.3-D (from memory)
+		{"indoor/outdoor", "om3", "indoor-outdoor", 10, 20, 2670}, // ANSI/TIA-568.3-D, more than 12 fibres (from memory)
 		{"riser backbone", "os2", "ofnr-riser", 10, 20, 1335},     // bend: ANSI/TIA-568.3-D backbone (from memory); tension: typical manufacturer value, no published standard
 		{"4-pair UTP", "cat6a", "cmr-riser", 4, 4, 110},           // ANSI/TIA-568.2: 4 x OD, 110 N = 25 lbf (seen)
 		{"4-pair UTP plenum", "cat6a", "cmp-plenum", 4, 4, 110},   // ANSI/TIA-568.2 (seen)
@@ -195,6 +195,22 @@ func TestCatalogMechanical(t *testing.T) {
 			}
 		})
 	}
+	t.Run("pull rating by size", func(t *testing.T) {
+		// ANSI/TIA-568.3-D: indoor-outdoor cable of 12 fibres or fewer 1335 N (300 lbf), of
+		// more 2670 N (600 lbf) (from memory); other constructions one rating for every size.
+		for _, tc := range []struct {
+			medium, construction string
+			strands              int
+			wantN                float64
+		}{{"os2", "indoor-outdoor", 12, 1335}, {"om4", "indoor-outdoor", 6, 1335}, {"os2", "indoor-outdoor", 24, 2670},
+			{"os2", "osp-loose-tube", 12, 2670}, {"os2", "ofnr-riser", 12, 1335}} {
+			k := c.Medium(tc.medium).Construction(tc.construction)
+			s, _ := k.Fit(tc.strands)
+			if got := k.PullRatingN(s); got != tc.wantN {
+				t.Errorf("%s %s, %d strands (size %d): rated %g N, want %g N", tc.medium, tc.construction, tc.strands, s.Count, got, tc.wantN)
+			}
+		}
+	})
 	t.Run("bend radius in mm", func(t *testing.T) {
 		k := c.Medium("os2").Construction("osp-loose-tube")
 		s, n := k.Fit(24)

@@ -351,7 +351,7 @@ func (r *run) pullPlan(i int) legPulls {
 	med := r.Engine.Catalog().Medium(leg.Medium)
 	k := med.Construction(leg.Construction)
 	spec := install.PullSpec{WNPerM: leg.Cable.Size.WeightKgPerM * StandardGravity, Mu: d.PullMu,
-		MaxTensionN: k.MaxPullN, MaxBendDeg: d.PullBendDeg, MaxLengthM: d.PullMaxM, MaxSWBPNPerM: d.PullMaxSWBPNPerM}
+		MaxTensionN: k.PullRatingN(leg.Cable.Size), MaxBendDeg: d.PullBendDeg, MaxLengthM: d.PullMaxM, MaxSWBPNPerM: d.PullMaxSWBPNPerM}
 	juncs := s.JunctionsOf(leg.Steps)
 	cum := make([]float64, len(leg.Steps)+1)
 	spans := make([]geo.Span, len(leg.Steps))

@@ -370,7 +370,7 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 			continue
 		}
 		hi := hiOf[i]
-		rated := r.Engine.Catalog().Medium(l.Medium).Construction(l.Construction).MaxPullN
+		rated := r.Engine.Catalog().Medium(l.Medium).Construction(l.Construction).PullRatingN(t.Size)
 		cells = append(cells, workbook.Text(l.Medium), workbook.Text(l.Application), workbook.Text(l.ConstructionText()),
 			workbook.Int(int64(l.StrandsCable)), workbook.Int(int64(t.Cables)), workbook.Number(u.mm(t.Size.ODMM), 1),
 			workbook.Number(u.m(l.RouteM), 1), workbook.Number(u.m(l.RiserM), 1), workbook.Number(u.m(t.SlackM()), 1),
