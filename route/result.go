@@ -161,7 +161,7 @@ func SolveFrom(ctx context.Context, s *site.Site, p *plan.Plan, eng *media.Engin
 		return nil, err
 	}
 	if start != nil && rt.StartSame {
-		pr.notes = append(pr.notes, fmt.Sprintf("started from the routes of %s, a plan of this same routing problem (every route cost, rule and reach the optimizer sees is the same): its plan is this one's too, not searched again", start.From))
+		pr.notes = append(pr.notes, fmt.Sprintf("started from the routes of %s, a plan of this same routing problem (every route cost, rule and reach the optimizer sees is the same): this plan is that problem's own plan from scratch, as that one was, not a search from its routes", start.From))
 	} else if start != nil {
 		pr.notes = append(pr.notes, startNote(start, links, rt.StartUnused)...)
 	}

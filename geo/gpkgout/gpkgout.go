@@ -200,7 +200,11 @@ func URI(path, query string) (string, error) {
 	if err != nil {
 		return "", err
 	}
-	u := url.URL{Scheme: "file", Path: filepath.ToSlash(abs), RawQuery: query}
+	slash := filepath.ToSlash(abs)
+	if !strings.HasPrefix(slash, "/") {
+		slash = "/" + slash // C:/dir on Windows: file:///C:/dir, not C: as the URI's host
+	}
+	u := url.URL{Scheme: "file", Path: slash, RawQuery: query}
 	return u.String(), nil
 }
 
