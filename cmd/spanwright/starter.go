@@ -17,7 +17,7 @@ func starterCommand() *cli.Command {
 		Name:      "starter",
 		Usage:     "write editable starter inputs (a small invented campus, a plan, a price-book template) into a folder",
 		ArgsUsage: "DIR",
-		Description: "Writes campus.geojson (a small invented campus of five buildings: ducts, a tunnel, a pole line,\n" +
+		Description: "Writes campus.geojson (a small invented campus of six buildings: ducts, a tunnel, a pole line,\n" +
 			"proposed trench), plan.yaml and prices.yaml (a price-book template, every key explained, every amount a\n" +
 			"placeholder) into DIR, creating it when missing, so that `spanwright plan DIR/plan.yaml --out OUT` runs\n" +
 			"at once and the files can be edited into your own. It never replaces a file: when any of the three\n" +
