@@ -146,19 +146,23 @@ func roundHalfAway(x float64, d int) float64 {
 	return math.Round(x*p) / p
 }
 
-// units of the workbook's physical columns.
-type xlUnits struct {
-	length, force, swbp, diameter string
-	m, n, nPerM, mm               func(float64) float64
+// Units are the names of the physical units a run's outputs for people are in, and the
+// conversions into them from the metric figures inside: metres, newtons, N/m (sidewall
+// pressure) and millimetres (diameters), or feet, pound-force, lbf/ft and inches when
+// imperial. The workbook, the report and the terminal take them from here.
+type Units struct {
+	Length, Force, SWBP, Diameter string
+	M, N, NPerM, MM               func(float64) float64
 }
 
-func xlUnitsOf(opt WriteOptions) xlUnits {
+// UnitsOf returns the units of opt.
+func UnitsOf(opt WriteOptions) Units {
 	id := func(x float64) float64 { return x }
 	if opt.imperial() {
-		return xlUnits{"ft", "lbf", "lbf/ft", "in", install.MToFt, install.NToLbf, install.NPerMToLbfPerFt,
+		return Units{"ft", "lbf", "lbf/ft", "in", install.MToFt, install.NToLbf, install.NPerMToLbfPerFt,
 			func(mm float64) float64 { return mm / install.MMPerIn }}
 	}
-	return xlUnits{"m", "N", "N/m", "mm", id, id, id, id}
+	return Units{"m", "N", "N/m", "mm", id, id, id, id}
 }
 
 // bomXLSX renders bom.xlsx: sheets summary, links (the cable schedule), bill of materials,
@@ -166,7 +170,7 @@ func xlUnitsOf(opt WriteOptions) xlUnits {
 // total and the budget check are formulas, so a changed unit price or quantity moves
 // them. Physical quantities are numbers with their unit in the header.
 func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptions) error {
-	u := xlUnitsOf(opt)
+	u := UnitsOf(opt)
 	b := r.Estimate.BOM
 	cur := b.Currency
 	wb := workbook.New()
@@ -175,11 +179,11 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 		workbook.Column{Name: "link"}, workbook.Column{Name: "leg"}, workbook.Column{Name: "from"}, workbook.Column{Name: "to"},
 		workbook.Column{Name: "rate"}, workbook.Column{Name: "medium"}, workbook.Column{Name: "application"},
 		workbook.Column{Name: "construction"}, workbook.Column{Name: "strands"}, workbook.Column{Name: "cables"},
-		workbook.Column{Name: "cable OD", Unit: u.diameter}, workbook.Column{Name: "route", Unit: u.length},
-		workbook.Column{Name: "risers", Unit: u.length}, workbook.Column{Name: "slack loops", Unit: u.length},
-		workbook.Column{Name: "structures passed"}, workbook.Column{Name: "cable bought", Unit: u.length},
+		workbook.Column{Name: "cable OD", Unit: u.Diameter}, workbook.Column{Name: "route", Unit: u.Length},
+		workbook.Column{Name: "risers", Unit: u.Length}, workbook.Column{Name: "slack loops", Unit: u.Length},
+		workbook.Column{Name: "structures passed"}, workbook.Column{Name: "cable bought", Unit: u.Length},
 		workbook.Column{Name: "reels"}, workbook.Column{Name: "mid-span splices"}, workbook.Column{Name: "pull sections"},
-		workbook.Column{Name: "highest pull", Unit: u.force}, workbook.Column{Name: "rated pull", Unit: u.force},
+		workbook.Column{Name: "highest pull", Unit: u.Force}, workbook.Column{Name: "rated pull", Unit: u.Force},
 		workbook.Column{Name: "model cost", Unit: cur}, workbook.Column{Name: "feasible"}, workbook.Column{Name: "note"},
 		workbook.Column{Name: "from entrance"}, workbook.Column{Name: "to entrance"}, workbook.Column{Name: "buildings crossed"},
 		workbook.Column{Name: "turns at added handholes"}, workbook.Column{Name: "reason code"})
@@ -191,24 +195,24 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 	pulls := wb.AddSheet("pull sections",
 		workbook.Column{Name: "link"}, workbook.Column{Name: "leg"}, workbook.Column{Name: "pull"},
 		workbook.Column{Name: "from"}, workbook.Column{Name: "to"}, workbook.Column{Name: "feed at"},
-		workbook.Column{Name: "spans"}, workbook.Column{Name: "start", Unit: u.length}, workbook.Column{Name: "length", Unit: u.length},
-		workbook.Column{Name: "bends", Unit: "deg"}, workbook.Column{Name: "bend radius", Unit: u.length},
-		workbook.Column{Name: "tension", Unit: u.force}, workbook.Column{Name: "other way", Unit: u.force},
-		workbook.Column{Name: "rated", Unit: u.force}, workbook.Column{Name: "of rating", Unit: "%"},
-		workbook.Column{Name: "sidewall pressure", Unit: u.swbp}, workbook.Column{Name: "added at from"},
+		workbook.Column{Name: "spans"}, workbook.Column{Name: "start", Unit: u.Length}, workbook.Column{Name: "length", Unit: u.Length},
+		workbook.Column{Name: "bends", Unit: "deg"}, workbook.Column{Name: "bend radius", Unit: u.Length},
+		workbook.Column{Name: "tension", Unit: u.Force}, workbook.Column{Name: "other way", Unit: u.Force},
+		workbook.Column{Name: "rated", Unit: u.Force}, workbook.Column{Name: "of rating", Unit: "%"},
+		workbook.Column{Name: "sidewall pressure", Unit: u.SWBP}, workbook.Column{Name: "added at from"},
 		workbook.Column{Name: "added at to"}, workbook.Column{Name: "within rating"}, workbook.Column{Name: "reason"})
 	pulls.Filter = true
 	fill := wb.AddSheet("duct fill",
 		workbook.Column{Name: "span"}, workbook.Column{Name: "pathway"}, workbook.Column{Name: "duct"},
-		workbook.Column{Name: "added"}, workbook.Column{Name: "duct ID", Unit: u.diameter}, workbook.Column{Name: "cables"},
-		workbook.Column{Name: odsHeader(r), Unit: u.diameter}, workbook.Column{Name: "fill", Unit: "%"},
+		workbook.Column{Name: "added"}, workbook.Column{Name: "duct ID", Unit: u.Diameter}, workbook.Column{Name: "cables"},
+		workbook.Column{Name: odsHeader(r), Unit: u.Diameter}, workbook.Column{Name: "fill", Unit: "%"},
 		workbook.Column{Name: "NFPA 70 limit", Unit: "%"}, workbook.Column{Name: "jam ratio 1.05 D/d"},
 		workbook.Column{Name: "in jam band 2.8-3.2"}, workbook.Column{Name: "ok"})
 	fill.Filter = true
 	loss := wb.AddSheet("loss budgets",
 		workbook.Column{Name: "link"}, workbook.Column{Name: "leg"}, workbook.Column{Name: "medium"},
 		workbook.Column{Name: "application"}, workbook.Column{Name: "construction"}, workbook.Column{Name: "wavelength", Unit: "nm"},
-		workbook.Column{Name: "channel", Unit: u.length}, workbook.Column{Name: "connector pairs"},
+		workbook.Column{Name: "channel", Unit: u.Length}, workbook.Column{Name: "connector pairs"},
 		workbook.Column{Name: "splices"}, workbook.Column{Name: "loss", Unit: "dB"}, workbook.Column{Name: "limit", Unit: "dB"},
 		workbook.Column{Name: "margin", Unit: "dB"}, workbook.Column{Name: "field test limit", Unit: "dB"},
 		workbook.Column{Name: "operating"})
@@ -316,9 +320,9 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 	num("links", float64(s.Links), 0, "")
 	num("legs", float64(s.Legs), 0, "")
 	num("infeasible legs", float64(s.Infeasible), 0, "")
-	num("route", u.m(s.TotalRouteM), 1, u.length)
-	num("cable bought", u.m(s.CableM), 1, u.length)
-	num("new trench", u.m(s.NewTrenchM), 1, u.length)
+	num("route", u.M(s.TotalRouteM), 1, u.Length)
+	num("cable bought", u.M(s.CableM), 1, u.Length)
+	num("new trench", u.M(s.NewTrenchM), 1, u.Length)
 	num("pull sections", float64(s.PullSections), 0, "")
 	num("added pull points", float64(s.AddedPullPoints), 0, "")
 	for _, c := range b.Subtotal {
@@ -372,10 +376,10 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 		hi := hiOf[i]
 		rated := r.Engine.Catalog().Medium(l.Medium).Construction(l.Construction).PullRatingN(t.Size)
 		cells = append(cells, workbook.Text(l.Medium), workbook.Text(l.Application), workbook.Text(l.ConstructionText()),
-			workbook.Int(int64(l.StrandsCable)), workbook.Int(int64(t.Cables)), workbook.Number(u.mm(t.Size.ODMM), 1),
-			workbook.Number(u.m(l.RouteM), 1), workbook.Number(u.m(l.RiserM), 1), workbook.Number(u.m(t.SlackM()), 1),
-			workbook.Int(int64(t.Structures)), workbook.Number(u.m(t.LengthM), 1), workbook.Int(int64(t.Reels)),
-			workbook.Int(int64(t.Joins)), workbook.Int(int64(pullsOf[i])), workbook.Number(u.n(hi), 1), workbook.Number(u.n(rated), 1),
+			workbook.Int(int64(l.StrandsCable)), workbook.Int(int64(t.Cables)), workbook.Number(u.MM(t.Size.ODMM), 1),
+			workbook.Number(u.M(l.RouteM), 1), workbook.Number(u.M(l.RiserM), 1), workbook.Number(u.M(t.SlackM()), 1),
+			workbook.Int(int64(t.Structures)), workbook.Number(u.M(t.LengthM), 1), workbook.Int(int64(t.Reels)),
+			workbook.Int(int64(t.Joins)), workbook.Int(int64(pullsOf[i])), workbook.Number(u.N(hi), 1), workbook.Number(u.N(rated), 1),
 			workbook.Cents(l.Cost.TotalCents()), workbook.Bool(true), workbook.Text(InUnits(opt, l.Reason)))
 		links.Append(append(cells, passage(r, l)...)...)
 	}
@@ -383,29 +387,29 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 		l := &r.Legs[p.Leg]
 		pulls.Append(workbook.Text(l.Link.ID), workbook.Text(l.Name), workbook.Int(int64(p.Seq)), workbook.Text(PointText(opt, p.From)),
 			workbook.Text(PointText(opt, p.To)), workbook.Text(PointText(opt, p.FeedAt)), workbook.Text(p.SpansText()),
-			workbook.Number(u.m(p.StartM), 1), workbook.Number(u.m(p.LengthM), 1), workbook.Number(p.BendDeg, 1),
-			workbook.Number(u.m(p.BendRadiusM), 2), workbook.Number(u.n(p.TensionN), 1), workbook.Number(u.n(p.OtherN), 1),
-			workbook.Number(u.n(p.RatedN), 1), workbook.Number(100*p.TensionN/p.RatedN, 1), workbook.Number(u.nPerM(p.SWBPNPerM), 1),
+			workbook.Number(u.M(p.StartM), 1), workbook.Number(u.M(p.LengthM), 1), workbook.Number(p.BendDeg, 1),
+			workbook.Number(u.M(p.BendRadiusM), 2), workbook.Number(u.N(p.TensionN), 1), workbook.Number(u.N(p.OtherN), 1),
+			workbook.Number(u.N(p.RatedN), 1), workbook.Number(100*p.TensionN/p.RatedN, 1), workbook.Number(u.NPerM(p.SWBPNPerM), 1),
 			workbook.Bool(p.AddedFrom), workbook.Bool(p.AddedTo), workbook.Bool(p.WithinRating), workbook.Text(install.Why(p.Over, PullUnits(opt))))
 	}
 	for _, f := range r.Estimate.Fill {
 		ods := make([]string, len(f.CablesODMM))
 		for i, od := range f.CablesODMM {
-			ods[i] = strconv.FormatFloat(u.mm(od), 'f', 2, 64)
+			ods[i] = strconv.FormatFloat(u.MM(od), 'f', 2, 64)
 		}
 		jam := workbook.Blank()
 		if f.JamRatio > 0 {
 			jam = workbook.Number(f.JamRatio, 2)
 		}
 		fill.Append(workbook.Text(f.Span), workbook.Text(f.PathwayID), workbook.Int(int64(f.Duct)), workbook.Bool(f.Added),
-			workbook.Number(u.mm(f.DuctIDMM), 2), workbook.Int(int64(len(f.CablesODMM))), workbook.Text(strings.Join(ods, " ")),
+			workbook.Number(u.MM(f.DuctIDMM), 2), workbook.Int(int64(len(f.CablesODMM))), workbook.Text(strings.Join(ods, " ")),
 			workbook.Number(f.FillPct, 1), workbook.Number(f.AllowedPct, 0), jam, workbook.Bool(f.JamRisk), workbook.Bool(f.OK))
 	}
 	for i := range r.Legs {
 		l := &r.Legs[i]
 		for _, x := range l.Losses {
 			row := []workbook.Cell{workbook.Text(l.Link.ID), workbook.Text(l.Name), workbook.Text(l.Medium), workbook.Text(l.Application),
-				workbook.Text(l.ConstructionText()), workbook.Int(int64(x.WavelengthNM)), workbook.Number(u.m(l.Cable.ChannelM), 1),
+				workbook.Text(l.ConstructionText()), workbook.Int(int64(x.WavelengthNM)), workbook.Number(u.M(l.Cable.ChannelM), 1),
 				workbook.Int(int64(x.Pairs)), workbook.Int(int64(x.Splices)), workbook.Number(x.LossDB, 2)}
 			if x.Operating {
 				row = append(row, workbook.Number(x.LimitDB, 2), workbook.Number(x.MarginDB, 2))

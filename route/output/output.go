@@ -627,11 +627,8 @@ func GapText(gapPct *float64) string {
 // lengths and forces in the units of opt.
 func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 	s := Summarize(r)
-	force := "N"
+	u := UnitsOf(opt)
 	length := func(m float64) string { return LengthText(opt, m) }
-	if opt.imperial() {
-		force = "lbf"
-	}
 	t := escape.Terminal // ids and names from the input, each within a line
 	fmt.Fprintf(w, "plan %q: hub %s, %s, %s, %s of route\n", s.Scenario, t(s.Hub), Counted(s.Links, "link", "links"), Counted(s.Legs, "leg", "legs"), length(s.TotalRouteM))
 	for _, n := range s.Notes {
@@ -720,12 +717,9 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 				hi = p
 			}
 		}
-		tn, rated := hi.TensionN, hi.RatedN
-		if opt.imperial() {
-			tn, rated = install.NToLbf(tn), install.NToLbf(rated)
-		}
+		tn, rated := u.N(hi.TensionN), u.N(hi.RatedN)
 		fmt.Fprintf(w, "pulling: %s, %d over rating; highest %.1f %s of %.1f %s rated (%s %s, from %s to %s)\n",
-			Counted(s.PullSections, "pull section", "pull sections"), s.PullsOverRating, tn, force, rated, force, t(r.Legs[hi.Leg].Link.ID), t(r.Legs[hi.Leg].Name), t(PointText(opt, hi.From)), t(PointText(opt, hi.To)))
+			Counted(s.PullSections, "pull section", "pull sections"), s.PullsOverRating, tn, u.Force, rated, u.Force, t(r.Legs[hi.Leg].Link.ID), t(r.Legs[hi.Leg].Name), t(PointText(opt, hi.From)), t(PointText(opt, hi.To)))
 	}
 	b := e.BOM
 	var cats []string
@@ -804,11 +798,12 @@ func PullUnits(opt WriteOptions) install.Units {
 	if !opt.imperial() {
 		return install.Units{}
 	}
+	u := UnitsOf(opt)
 	one := func(v float64, unit string) string { return strconv.FormatFloat(v, 'f', 1, 64) + " " + unit }
 	return install.Units{
 		Length:   func(m float64) string { return LengthText(opt, m) },
-		Force:    func(n float64) string { return one(install.NToLbf(n), "lbf") },
-		Pressure: func(v float64) string { return one(install.NPerMToLbfPerFt(v), "lbf/ft") },
+		Force:    func(n float64) string { return one(u.N(n), u.Force) },
+		Pressure: func(v float64) string { return one(u.NPerM(v), u.SWBP) },
 	}
 }
 

@@ -4,7 +4,6 @@ import (
 	"strconv"
 	"strings"
 
-	"spanwright/media/install"
 	"spanwright/route/output"
 )
 
@@ -18,44 +17,15 @@ type Options struct {
 
 func (o Options) imperial() bool { return o.Units == output.UnitsImperial }
 
-// lengthUnit is the unit lengths are shown in.
-func (o Options) lengthUnit() string {
-	if o.imperial() {
-		return "ft"
-	}
-	return "m"
-}
-
-// forceUnit is the unit forces are shown in.
-func (o Options) forceUnit() string {
-	if o.imperial() {
-		return "lbf"
-	}
-	return "N"
-}
-
-// sidewallUnit is the unit sidewall bearing pressure is shown in.
-func (o Options) sidewallUnit() string {
-	if o.imperial() {
-		return "lbf/ft"
-	}
-	return "N/m"
-}
-
-// diameterUnit is the unit duct and cable diameters are shown in.
-func (o Options) diameterUnit() string {
-	if o.imperial() {
-		return "in"
-	}
-	return "mm"
-}
+// units are the report's units and their conversions, the run's (output.UnitsOf).
+func (o Options) units() output.Units { return output.UnitsOf(output.WriteOptions{Units: o.Units}) }
 
 // diameter formats a diameter in millimetres in the report's unit: whole millimetres above
 // 20 mm (a duct), else one decimal (a cable); inches with two decimals (1 in = 25.4 mm
 // exactly, NIST SP 811 B.8).
 func (o Options) diameter(mm float64) string {
 	if o.imperial() {
-		return strconv.FormatFloat(mm/install.MMPerIn, 'f', 2, 64)
+		return strconv.FormatFloat(o.units().MM(mm), 'f', 2, 64)
 	}
 	if mm > 20 {
 		return strconv.FormatFloat(mm, 'f', 0, 64)
@@ -80,19 +50,16 @@ func (o Options) diameters(mm []float64) string {
 			texts[i] = strconv.Itoa(n) + " × " + t
 		}
 	}
-	return strings.Join(texts, ", ") + " " + o.diameterUnit()
+	return strings.Join(texts, ", ") + " " + o.units().Diameter
 }
 
 // length formats metres in the report's unit with one decimal and thousands separators.
 func (o Options) length(m float64) string {
-	if o.imperial() {
-		m *= output.FtPerM
-	}
-	return group(strconv.FormatFloat(m, 'f', 1, 64))
+	return group(strconv.FormatFloat(o.units().M(m), 'f', 1, 64))
 }
 
 // lengthU is length with its unit.
-func (o Options) lengthU(m float64) string { return o.length(m) + " " + o.lengthUnit() }
+func (o Options) lengthU(m float64) string { return o.length(m) + " " + o.units().Length }
 
 // money formats cents as an amount with two decimals and thousands separators:
 // 1234567 is "12,345.67".

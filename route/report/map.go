@@ -435,7 +435,7 @@ func newScaleBar(p *projection, opt Options) scaleBar {
 	x0, y0 := mapMarginPx, p.heightPx-bandPx/2-3
 	sb := scaleBar{X: num(x0), Y: num(y0), TotalW: num(w), BarHeight: "6",
 		ZeroX: num(x0), EndX: num(x0 + w), TextY: num(y0 - 4),
-		Label: group(fmt.Sprintf("%g", length)) + " " + opt.lengthUnit()}
+		Label: group(fmt.Sprintf("%g", length)) + " " + opt.units().Length}
 	for k := 0; k < 4; k++ {
 		cls := "sb-dark"
 		if k%2 == 1 {

@@ -354,7 +354,7 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 		cat = r.Engine.Catalog()
 	}
 	s := output.Summarize(r)
-	v := &planView{S: s, Unit: opt.lengthUnit(), Currency: r.Currency, Hub: r.Hub}
+	v := &planView{S: s, Unit: opt.units().Length, Currency: r.Currency, Hub: r.Hub}
 	v.Title = "Backbone plan: " + s.Scenario
 	if s.Scenario == "" {
 		v.Title = "Backbone plan"
@@ -482,7 +482,8 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 				Pct: strconv.FormatFloat(d.Pct, 'f', 1, 64) + " %"})
 		}
 	}
-	v.Force, v.Sidewall, v.Diameter = opt.forceUnit(), opt.sidewallUnit(), opt.diameterUnit()
+	u := opt.units()
+	v.Force, v.Sidewall, v.Diameter = u.Force, u.SWBP, u.Diameter
 	// Warnings are text made inside the model in metres (summary.json keeps them so): the
 	// report writes their lengths in its units, as it does the rule engine's reasons.
 	for _, w := range r.Warnings {
@@ -967,23 +968,14 @@ func pullRows(r *route.Result, opt Options) ([]pullRow, int, listed) {
 		}
 		return 0
 	})
-	force := func(n float64) string {
-		if opt.imperial() {
-			n = install.NToLbf(n)
-		}
-		return group(strconv.FormatFloat(n, 'f', 1, 64))
-	}
-	// Sidewall pressure in the table's unit (Options.sidewallUnit), no decimals.
-	sidewall := func(v float64) string {
-		if opt.imperial() {
-			v = install.NPerMToLbfPerFt(v)
-		}
-		return group(strconv.FormatFloat(v, 'f', 0, 64))
-	}
+	u := opt.units()
+	force := func(n float64) string { return group(strconv.FormatFloat(u.N(n), 'f', 1, 64)) }
+	// Sidewall pressure in the table's unit, no decimals.
+	sidewall := func(v float64) string { return group(strconv.FormatFloat(u.NPerM(v), 'f', 0, 64)) }
 	// Why a pull is over its limits, in the report's units and formatting.
 	units := install.Units{Length: opt.lengthU,
-		Force:    func(n float64) string { return force(n) + " " + opt.forceUnit() },
-		Pressure: func(v float64) string { return sidewall(v) + " " + opt.sidewallUnit() }}
+		Force:    func(n float64) string { return force(n) + " " + u.Force },
+		Pressure: func(v float64) string { return sidewall(v) + " " + u.SWBP }}
 	over := countOf(all, func(p estimate.PullSection) bool { return !p.WithinRating })
 	shown := listOf(len(all))
 	out := make([]pullRow, shown.Shown)
