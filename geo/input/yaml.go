@@ -410,6 +410,16 @@ func DidYouMean[V any](key string, known map[string]V) string {
 	return " did you mean " + best + "?"
 }
 
+// Counted is n and the words that go with it: one for a count of one, many for any other
+// ("1 leg", "2 legs", "0 legs"; "1 building reaches", "3 buildings reach"). Every count printed
+// to the terminal or written in a warning or summary text goes through it.
+func Counted(n int, one, many string) string {
+	if n == 1 {
+		return "1 " + one
+	}
+	return strconv.Itoa(n) + " " + many
+}
+
 // EditDistance is the Levenshtein distance between a and b, in bytes: the one measure of how
 // near a misspelt name is (DidYouMean here, the rule language's unknown facts in media).
 func EditDistance(a, b string) int {

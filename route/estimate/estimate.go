@@ -11,6 +11,7 @@ import (
 	"strings"
 
 	"spanwright/geo"
+	"spanwright/geo/input"
 	"spanwright/media"
 	"spanwright/media/install"
 	"spanwright/route/internal/ctxio"
@@ -378,16 +379,14 @@ func (r *run) pullPlan(i int) legPulls {
 	}
 	// A counted lateral that ends in a structure or taps a duct (where the plan builds a
 	// handhole) is pulled on its own: the spans' pulls start and end there, not at the building.
-	latTo, latFrom := r.lateralPull(leg.Link.To, leg.EntranceTo), r.lateralPull(leg.Link.From, leg.EntranceFrom)
 	// A lateral that carries a duct on from its dangling end is pulled with that duct: before
 	// the first span (carryTo) or after the last (carryFrom), with the turn between them.
-	var carryTo, carryFrom geo.Entry
-	if en, ok := r.entryOf(leg.Link.To, leg.EntranceTo); ok && en.LateralM > 0 && latTo.ID == "" && len(spans) > 0 && spans[0].Type == geo.TypeDuct {
-		carryTo = en
+	var head, tail *geo.Span // the spans at the served end and at the cross-connect
+	if len(spans) > 0 {
+		head, tail = &spans[0], &spans[len(spans)-1]
 	}
-	if en, ok := r.entryOf(leg.Link.From, leg.EntranceFrom); ok && en.LateralM > 0 && latFrom.ID == "" && len(spans) > 0 && spans[len(spans)-1].Type == geo.TypeDuct {
-		carryFrom = en
-	}
+	latTo, carryTo := r.lateralEnd(leg.Link.To, leg.EntranceTo, head)
+	latFrom, carryFrom := r.lateralEnd(leg.Link.From, leg.EntranceFrom, tail)
 	endM := cum[len(cum)-1]
 	name := func(x float64) (at PullPoint, key string) {
 		switch { // in a carried lateral: its building, or a handhole the plan adds along it
@@ -445,13 +444,12 @@ func (r *run) pullPlan(i int) legPulls {
 			ps := PullSection{Leg: i, Seq: seq, LengthM: sec.LengthM, TensionN: sec.MaxTensionN, RatedN: spec.MaxTensionN,
 				SWBPNPerM: sec.MaxSWBPNPerM, AddedFrom: sec.StartAdded, AddedTo: sec.EndAdded, WithinRating: sec.WithinRating,
 				Over: sec.Over, Lateral: en.ID}
+			ps.StartM = start + sec.StartM
 			var fromKey, toKey string
 			if served { // travel order: from the building to the junction
-				ps.StartM = start + sec.StartM
 				ps.From, fromKey = at(sec.StartM)
 				ps.To, toKey = at(sec.StartM + sec.LengthM)
 			} else { // from the junction to the building
-				ps.StartM = start + sec.StartM
 				ps.From, fromKey = at(en.LateralM - sec.StartM)
 				ps.To, toKey = at(en.LateralM - sec.StartM - sec.LengthM)
 			}
@@ -597,26 +595,24 @@ func (r *run) pullPlan(i int) legPulls {
 	return e
 }
 
-// entryOf is building b's entrance id.
-func (r *run) entryOf(b, id string) (geo.Entry, bool) {
+// lateralEnd sorts out the counted lateral of building b's entrance id at one end of a leg,
+// whose span at that end is sp (nil without spans): pulled on its own (own: it ends in a
+// structure, or taps a duct where the plan builds a handhole), or pulled with sp when sp is a
+// duct it carries on from its dangling end (carried); the zero Entry for what it is not (no
+// lateral at all: both).
+func (r *run) lateralEnd(b, id string, sp *geo.Span) (own, carried geo.Entry) {
 	for _, en := range r.Site.Net.EntrancesOf(b) {
-		if en.ID == id {
-			return en, true
+		if en.ID != id || en.LateralM <= 0 {
+			continue
+		}
+		switch {
+		case r.Site.IsStructure(en.Junction) || r.Site.TapOf(en):
+			return en, geo.Entry{}
+		case sp != nil && sp.Type == geo.TypeDuct:
+			return geo.Entry{}, en
 		}
 	}
-	return geo.Entry{}, false
-}
-
-// lateralPull is the entrance id of building b when its counted lateral is pulled on its own
-// (it ends in a structure, or taps a duct where the plan builds a handhole); the zero Entry
-// when it is not (no lateral, or one that carries a duct on from its dangling end).
-func (r *run) lateralPull(b, id string) geo.Entry {
-	for _, en := range r.Site.Net.EntrancesOf(b) {
-		if en.ID == id && en.LateralM > 0 && (r.Site.IsStructure(en.Junction) || r.Site.TapOf(en)) {
-			return en
-		}
-	}
-	return geo.Entry{}
+	return geo.Entry{}, geo.Entry{}
 }
 
 // ductFill checks every duct of every span of limited capacity that carries cable, with
@@ -921,21 +917,13 @@ func (c *Construction) assumedWarning() string {
 	}
 	var what []string
 	if spans > 0 {
-		what = append(what, counted(spans, "span", "spans"))
+		what = append(what, input.Counted(spans, "span", "spans"))
 	}
 	if laterals > 0 {
-		what = append(what, counted(laterals, "counted lateral", "counted laterals"))
+		what = append(what, input.Counted(laterals, "counted lateral", "counted laterals"))
 	}
 	return fmt.Sprintf("new trench priced on an assumed surface, %s (design.assumed_surface): %s, %.1f m, to which the campus gives no surface; the report lists them",
 		c.AssumedSurface, strings.Join(what, " and "), m)
-}
-
-// counted is n with its noun, one or many.
-func counted(n int, one, many string) string {
-	if n == 1 {
-		return "1 " + one
-	}
-	return strconv.Itoa(n) + " " + many
 }
 
 // legItems lists what one feasible leg puts on the bill of materials: its cables, entrance

@@ -16,6 +16,7 @@ import (
 	"text/tabwriter"
 
 	"spanwright/geo"
+	"spanwright/geo/input"
 	"spanwright/media"
 	"spanwright/media/install"
 	"spanwright/route"
@@ -930,12 +931,5 @@ func piecesLine(r site.CheckReport) string {
 		escape.TerminalList(ids), more)
 }
 
-// Counted is n and the words that go with it: one for a count of one, many for any other
-// ("1 leg", "2 legs", "0 legs"; "1 building reaches", "3 buildings reach"). Every count printed
-// to the terminal or written in summary text goes through it.
-func Counted(n int, one, many string) string {
-	if n == 1 {
-		return "1 " + one
-	}
-	return strconv.Itoa(n) + " " + many
-}
+// Counted is input.Counted, the one way a count is written with its noun.
+var Counted = input.Counted
