@@ -781,10 +781,7 @@ func DemoPrices(r *route.Result) bool {
 // LengthText writes a length for a person, with its unit: metres, or feet when imperial,
 // with one decimal ("12.3 m", "40.4 ft").
 func LengthText(opt WriteOptions, m float64) string {
-	if opt.imperial() {
-		return ftOrM(opt, m, 1) + " ft"
-	}
-	return ftOrM(opt, m, 1) + " m"
+	return ftOrM(opt, m, 1) + " " + UnitsOf(opt).Length
 }
 
 // PointText writes a pull point for a person, an added handhole's place on its span in the
@@ -810,10 +807,7 @@ func PullUnits(opt WriteOptions) install.Units {
 
 // ftOrM formats a length for an output edge: metres, or feet when imperial.
 func ftOrM(opt WriteOptions, m float64, decimals int) string {
-	if opt.imperial() {
-		m = install.MToFt(m)
-	}
-	return strconv.FormatFloat(m, 'f', decimals, 64)
+	return strconv.FormatFloat(UnitsOf(opt).M(m), 'f', decimals, 64)
 }
 
 // PrintCheck writes a check report as aligned text; lengths in metres, or feet when imperial
