@@ -290,10 +290,8 @@ func startNote(start *routing.Start, links []site.Link, unused []string) []strin
 	if len(unused) == 0 {
 		return nil
 	}
-	names := strings.Join(unused[:min(len(unused), startNoteLinks)], ", ")
-	if more := len(unused) - startNoteLinks; more > 0 {
-		names += fmt.Sprintf(" and %d more", more)
-	}
+	shown, more := input.Shown(unused, startNoteLinks)
+	names := strings.Join(shown, ", ") + more
 	what := fmt.Sprintf("%d links' routes there no longer fit this plan and were", len(unused))
 	if len(unused) == 1 {
 		what = "1 link's route there no longer fits this plan and was"

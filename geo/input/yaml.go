@@ -420,6 +420,15 @@ func Counted(n int, one, many string) string {
 	return strconv.Itoa(n) + " " + many
 }
 
+// Shown cuts a list of names short for a note or a terminal line: the first n of items and,
+// when there are more, " and N more" to write after them ("" when all are shown).
+func Shown(items []string, n int) (shown []string, more string) {
+	if len(items) <= n {
+		return items, ""
+	}
+	return items[:n], fmt.Sprintf(" and %d more", len(items)-n)
+}
+
 // EditDistance is the Levenshtein distance between a and b, in bytes: the one measure of how
 // near a misspelt name is (DidYouMean here, the rule language's unknown facts in media).
 func EditDistance(a, b string) int {

@@ -916,11 +916,7 @@ func piecesLine(r site.CheckReport) string {
 	if r.Hub == "" || len(r.Unreachable) == 0 {
 		return line
 	}
-	ids := r.Unreachable[:min(len(r.Unreachable), ShownOffPiece)]
-	more := ""
-	if n := len(r.Unreachable) - len(ids); n > 0 {
-		more = fmt.Sprintf(" and %d more", n)
-	}
+	ids, more := input.Shown(r.Unreachable, ShownOffPiece)
 	return fmt.Sprintf("%s; %s off the hub's piece: %s%s", line, Counted(len(r.Unreachable), "building is", "buildings are"),
 		escape.TerminalList(ids), more)
 }

@@ -411,14 +411,7 @@ func (r *runner) foreign(all []Scenario) string {
 	if len(names) == 0 {
 		return ""
 	}
-	shown := names
-	if len(shown) > 5 {
-		shown = shown[:5]
-	}
-	more := ""
-	if len(names) > len(shown) {
-		more = fmt.Sprintf(" and %d more", len(names)-len(shown))
-	}
+	shown, more := input.Shown(names, 5)
 	verb := "are"
 	if len(names) == 1 {
 		verb = "is"
@@ -887,14 +880,11 @@ func (r *runner) formatNote() string {
 		return ""
 	}
 	slices.Sort(idx)
-	var ids []string
-	for _, i := range idx[:min(len(idx), 5)] {
-		ids = append(ids, r.otherFormat[i].id)
+	var all []string
+	for _, i := range idx {
+		all = append(all, r.otherFormat[i].id)
 	}
-	more := ""
-	if len(idx) > len(ids) {
-		more = fmt.Sprintf(" and %d more", len(idx)-len(ids))
-	}
+	ids, more := input.Shown(all, 5)
 	their, has, is := "its summary.json", "has", "is"
 	if len(idx) > 1 {
 		their, has, is = "their summary.json files", "have", "are"
