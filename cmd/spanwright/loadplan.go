@@ -24,41 +24,26 @@ func loadPlan(ctx context.Context, path string, o plan.LoadOptions) (*plan.Plan,
 	var all input.Problems
 	all.Add(err)
 	if len(p.Campus) > 0 || p.CampusDatabase != "" {
-		for _, e := range campusProblems(ctx, p) {
-			var more input.Problems
-			more.Add(e)
-			for _, q := range more.List {
-				if !listed(&all, q) {
-					all.Add(q)
-				}
-			}
+		if err := campusProblems(ctx, p); isFileProblem(err) {
+			all.AddNew(err)
 		}
 	}
 	all.Sort()
 	return nil, all.Err()
 }
 
-// campusProblems returns the problems of p that reading its campus and checking the plan on
-// it find: the campus's own, then what route.Check finds; none when a file cannot be read.
-func campusProblems(ctx context.Context, p *plan.Plan) []error {
+// campusProblems returns what reading p's campus and checking the plan on it find: the
+// campus's own problems, the engine's, or route.Check's; nil when there are none.
+func campusProblems(ctx context.Context, p *plan.Plan) error {
 	st, err := site.Load(ctx, nil, campusPaths(p), siteOptions(p))
 	if err != nil {
-		if isFileProblem(err) {
-			return []error{err}
-		}
-		return nil
+		return err
 	}
 	eng, err := plan.Engine(p)
 	if err != nil {
-		if isFileProblem(err) {
-			return []error{err}
-		}
-		return nil
+		return err
 	}
-	if err := route.Check(st, p, eng); err != nil && isFileProblem(err) {
-		return []error{err}
-	}
-	return nil
+	return route.Check(st, p, eng)
 }
 
 // isFileProblem reports whether err is one or more problems of an input file (not the
@@ -66,16 +51,5 @@ func campusProblems(ctx context.Context, p *plan.Plan) []error {
 func isFileProblem(err error) bool {
 	var p *input.Problem
 	var ps *input.Problems
-	return (errors.As(err, &ps) || errors.As(err, &p)) && !errors.Is(err, context.Canceled) && !errors.Is(err, context.DeadlineExceeded)
-}
-
-// listed reports whether l holds a problem of the same text as q, so that a problem both the
-// plan and the campus check find is listed once.
-func listed(l *input.Problems, q *input.Problem) bool {
-	for _, p := range l.List {
-		if p.Error() == q.Error() {
-			return true
-		}
-	}
-	return false
+	return err != nil && (errors.As(err, &ps) || errors.As(err, &p)) && !errors.Is(err, context.Canceled) && !errors.Is(err, context.DeadlineExceeded)
 }

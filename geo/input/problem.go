@@ -194,6 +194,20 @@ func (l *Problems) Add(err error) {
 }
 
 // Len is the number of problems found, kept or dropped.
+// AddNew is Add for problems that may have been found already by another check: each
+// problem of err (one, or every one of a *Problems) is added unless l holds one of the same
+// text.
+func (l *Problems) AddNew(err error) {
+	var more Problems
+	more.Add(err)
+	for _, q := range more.List {
+		if !slices.ContainsFunc(l.List, func(p *Problem) bool { return p.Error() == q.Error() }) {
+			l.Add(q)
+		}
+	}
+	l.Dropped += more.Dropped
+}
+
 func (l *Problems) Len() int { return len(l.List) + l.Dropped }
 
 // Err returns l when it holds a problem and nil otherwise.

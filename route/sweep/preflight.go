@@ -35,13 +35,9 @@ import (
 // ctx is done it stops between two scenarios and returns an error wrapping ctx's.
 func (r *runner) preflight(ctx context.Context, list []Scenario) error {
 	var out input.Problems
-	seen := map[string]bool{}
 	add := func(p *input.Problem) {
 		p.Class = ErrInvalid
-		if k := p.Error(); !seen[k] {
-			seen[k] = true
-			out.Add(p)
-		}
+		out.AddNew(p) // once, however many scenarios have it
 	}
 	// Problems not placed at an override (the base plan's, another file's), by message, with
 	// the scenarios that have them.
