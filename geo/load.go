@@ -821,11 +821,32 @@ func badEnum(allowed []string, got any) error {
 	for i, a := range allowed {
 		q[i] = strconv.Quote(a)
 	}
-	kind := ErrBadValue
-	if _, isStr := got.(string); !isStr {
+	kind, hint := ErrBadValue, ""
+	if s, isStr := got.(string); !isStr {
 		kind = ErrWrongType
+	} else {
+		hint = enumHint(allowed, s)
 	}
-	return problemf(kind, "want one of %s, got %s", strings.Join(q, ", "), describe(got))
+	return problemf(kind, "want one of %s, got %s%s", strings.Join(q, ", "), describe(got), hint)
+}
+
+// enumHint is "; did you mean X?" for a value that is an allowed one in other letter case
+// (values are matched exactly: "Structure" is not "structure"), or near one by
+// input.DidYouMean; "" otherwise.
+func enumHint(allowed []string, got string) string {
+	for _, a := range allowed {
+		if strings.EqualFold(a, got) {
+			return fmt.Sprintf("; did you mean %q? (letter case matters)", a)
+		}
+	}
+	known := make(map[string]bool, len(allowed))
+	for _, a := range allowed {
+		known[a] = true
+	}
+	if h := input.DidYouMean(got, known); h != "" {
+		return ";" + h
+	}
+	return ""
 }
 
 // flag returns a boolean property, or false when absent or bad.

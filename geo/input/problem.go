@@ -157,8 +157,11 @@ func Place(at Problem, err error) *Problem {
 	return &at
 }
 
-// MaxProblems caps how many problems one Problems keeps; the rest are counted.
-const MaxProblems = 100
+// MaxProblems caps how many problems one Problems keeps, so that a file whose every feature
+// is wrong cannot fill memory; the rest are counted. It is far above what a campus file of
+// the largest size accepted shows in practice (a systematic error, such as numbers written
+// as strings, gives one problem per feature: 259 on a 40-building campus).
+const MaxProblems = 10000
 
 // Problems is every problem found in the input of one run, reported at once: one per line,
 // then how many more there were beyond MaxProblems.
