@@ -1082,10 +1082,11 @@ func (b *builder) spans(n *Network) {
 		}
 		var bends []float64
 		if len(pc.pts) > 2 {
-			bends = make([]float64, 0, len(pc.pts)-2)
-			for i := 1; i < len(pc.pts)-1; i++ {
-				bends = append(bends, deflectionDeg(b.proj.xy(pc.pts[i-1]), b.proj.xy(pc.pts[i]), b.proj.xy(pc.pts[i+1])))
+			xy := make([]vec, len(pc.pts))
+			for i, p := range pc.pts {
+				xy[i] = b.proj.xy(p)
 			}
+			bends = bendsDeg(xy)
 		}
 		n.Spans = append(n.Spans, Span{
 			ID: id, PathwayID: pw.ID, From: b.ids[pc.from], To: b.ids[pc.to],
