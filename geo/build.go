@@ -48,6 +48,9 @@ const minCellM = 25.0
 //
 // A building with none of these is an ErrUnreachable *input.Problem.
 //
+// A pathway end more than SnapM inside a footprint that meets nothing there is cut back to
+// where the pathway crosses the wall (cutAtWalls), with one Warning.
+//
 // Beside the Access, every way into a building is one of its Entrances: each declared
 // entrance on a pathway or within MaxLateralM of one (each off the pathways gets its own
 // counted lateral, and the place where it joins becomes a junction), and each pathway end on
@@ -98,7 +101,7 @@ func BuildContext(ctx context.Context, c *Campus, opt Options) (*Network, error)
 		return nil, &b.errs
 	}
 	n := &Network{}
-	steps = []func(){b.cut, b.number, func() { b.spans(n) }, func() { b.junctions(n) }, func() { b.access(n) }, func() { b.entrances(n) }, func() { b.facts(n) }}
+	steps = []func(){b.cut, b.number, func() { b.spans(n) }, func() { b.cutAtWalls(n) }, func() { b.junctions(n) }, func() { b.access(n) }, func() { b.entrances(n) }, func() { b.facts(n) }}
 	if err := runSteps(ctx, steps); err != nil {
 		return nil, err
 	}

@@ -155,8 +155,10 @@ func TestGraphParallelSpans(t *testing.T) {
 	g := s.Graph
 	a, _ := g.NodeOf(s.Access("A").Junction)
 	c, _ := g.NodeOf(s.Access("C").Junction)
-	if d := path.DijkstraFrom(g.Node(a), g).WeightTo(c); math.Abs(d-(15+100+15)) > 0.5 {
-		t.Errorf("A to C: got %.2f m, want about 130 m", d)
+	// Each building's pathway runs 10 m from the street to its wall (drawn 5 m on inside
+	// the footprint, which Build cuts at the wall).
+	if d := path.DijkstraFrom(g.Node(a), g).WeightTo(c); math.Abs(d-(10+100+10)) > 0.5 {
+		t.Errorf("A to C: got %.2f m, want about 120 m", d)
 	}
 	g2 := site.NewGraph(s.Net)
 	g2.SetWeight(func(sp *geo.Span) float64 {
@@ -165,7 +167,7 @@ func TestGraphParallelSpans(t *testing.T) {
 		}
 		return sp.LengthM
 	})
-	want := 15 + 2*math.Hypot(50, 30) + 15
+	want := 10 + 2*math.Hypot(50, 30) + 10
 	if d := path.DijkstraFrom(g2.Node(a), g2).WeightTo(c); math.Abs(d-want) > 0.5 {
 		t.Errorf("A to C without ST: got %.2f m, want about %.1f m over the parallel duct", d, want)
 	}
