@@ -235,6 +235,7 @@ type builder struct {
 	entries [][]entry // per part, kept junction positions
 	pieces  []piece
 	rep     map[int]orb.Point // root → junction point
+	cutIn   map[string][]int  // pathway ID → the buildings (index) where cutAtWalls cut an end of it
 	ids     map[int]string    // root → junction ID
 	buf     []int32
 }
@@ -1278,6 +1279,9 @@ func (b *builder) crossings() {
 			}
 		}
 		pa, pb := b.c.Pathways[b.parts[cr.pa].pw], b.c.Pathways[b.parts[cr.pb].pw]
+		if b.cutOff(pa.ID, cr.at) || b.cutOff(pb.ID, cr.at) {
+			continue // on a stretch inside a building that cutAtWalls left off
+		}
 		b.warns = append(b.warns, warnRec{pa.Source, pa.ID, fmt.Sprintf(
 			"pathways %q and %q cross at %s, %s with no shared vertex or structure; they are not joined there",
 			pa.ID, pb.ID, fmtLL(cr.at[0]), fmtLL(cr.at[1]))})

@@ -87,6 +87,10 @@ func (b *builder) cutAtWalls(n *Network) {
 			}
 			sp.Line, sp.LengthM, sp.BendsDeg = kept, LengthM(kept), bendsDeg(xy)
 			b.rep[r] = wall
+			if b.cutIn == nil {
+				b.cutIn = make(map[string][]int)
+			}
+			b.cutIn[sp.PathwayID] = append(b.cutIn[sp.PathwayID], bi)
 			cuts = append(cuts, wallCut{pw: sp.PathwayID, building: bl.ID, cutM: cutM})
 		}
 	}
@@ -136,4 +140,16 @@ func (b *builder) wallCrossing(f *footprint, line orb.LineString) (orb.LineStrin
 		return kept, wall, len(kept) >= 2
 	}
 	return nil, orb.Point{}, false
+}
+
+// cutOff reports whether point p (lon/lat) lies inside a building where cutAtWalls cut an end
+// of pathway id: on the stretch left off, unless the pathway also runs through that building
+// elsewhere (taken as not).
+func (b *builder) cutOff(id string, p orb.Point) bool {
+	for _, bi := range b.cutIn[id] {
+		if b.feet[bi].contains(b.proj.xy(p)) {
+			return true
+		}
+	}
+	return false
 }
