@@ -92,3 +92,84 @@ func (n *Network) LateralTurnDeg(lateral orb.LineString, b Step, into bool) floa
 	}
 	return turnAt(prev, lateral[nl-1], lateral[nl-2])
 }
+
+// BendToleranceM is how far, in metres, a vertex of a span's line may stand off the straight
+// line between the vertices kept on either side of it and still be taken as drawing noise
+// rather than a bend: BendsDeg measures the line simplified within it (Douglas–Peucker). A
+// facilities GIS draws a straight duct with vertices a hair off the line (a digitizing spike,
+// a densified line's jitter); counted as bends, each fills a pull's bend budget (TIA-569: two
+// 90° bends between pull points) and adds pull points no crew would build. A duct turns no
+// sharper than its minimum bend radius (TIA-569: 10 × the inside diameter for conduit over
+// 50 mm, 6 × up to it; from memory), 1 m for the default 100 mm duct, so two opposite bends of
+// θ offset it sideways by at least 2 m × (1 − cos θ): a sideways jog of no more than 0.25 m is
+// at most two bends of 29° (modelling choice: half the default snap_m, the distance at which
+// the drawing's ends are already taken as one point). A real bend drawn with a short chamfer
+// (two 45° vertices) keeps its 90° whatever the chamfer's length: a chamfer vertex dropped
+// leaves its turn to the one kept.
+const BendToleranceM = 0.25
+
+// bendsDeg returns the bend in degrees at each interior vertex of the line xy (local metres),
+// one value per interior vertex so the bends stay aligned with the segments. The vertices the
+// line simplified within BendToleranceM keeps are its bends; every other vertex is 0, and its
+// turn (signed: left positive) goes to the nearest kept vertex along the line, so that a kept
+// vertex's bend is the net turn of the stretch around it. A spike or a jitter turns one way
+// and back and adds nothing; a curve drawn with many vertices keeps all of its turn, which the
+// turns between the simplified line's chords alone would cut short at its ends.
+func bendsDeg(xy []vec) []float64 {
+	if len(xy) <= 2 {
+		return nil
+	}
+	kept := keptVertices(xy, BendToleranceM)
+	bends := make([]float64, len(xy)-2)
+	if len(kept) == 2 {
+		return bends
+	}
+	along := make([]float64, len(xy))
+	for i := 1; i < len(xy); i++ {
+		along[i] = along[i-1] + xy[i].dist(xy[i-1])
+	}
+	net := make([]float64, len(xy)) // by kept vertex: the signed turns of its stretch
+	k := 1                          // the kept vertex that vertex i's turn goes to, 1 ≤ k < len(kept)-1
+	for i := 1; i < len(xy)-1; i++ {
+		for k+1 < len(kept)-1 && along[kept[k+1]]-along[i] < along[i]-along[kept[k]] {
+			k++
+		}
+		u, v := xy[i].sub(xy[i-1]), xy[i+1].sub(xy[i])
+		net[kept[k]] += math.Atan2(u.cross(v), u.dot(v)) / deg
+	}
+	for _, i := range kept[1 : len(kept)-1] {
+		bends[i-1] = math.Abs(net[i])
+	}
+	return bends
+}
+
+// keptVertices returns, in order, the indices of the vertices of xy that the Douglas–Peucker
+// simplification within tolM keeps (D. Douglas and T. Peucker, The Canadian Cartographer
+// 10(2), 1973): both ends, and recursively the vertex farthest from the segment between two
+// kept ones while it is more than tolM from it; of vertices as far, the first.
+func keptVertices(xy []vec, tolM float64) []int {
+	keep := make([]bool, len(xy))
+	keep[0], keep[len(xy)-1] = true, true
+	stack := [][2]int{{0, len(xy) - 1}}
+	for len(stack) > 0 {
+		lo, hi := stack[len(stack)-1][0], stack[len(stack)-1][1]
+		stack = stack[:len(stack)-1]
+		far, farD2 := -1, tolM*tolM
+		for i := lo + 1; i < hi; i++ {
+			if _, d2 := closestOnSeg(xy[i], xy[lo], xy[hi]); d2 > farD2 {
+				far, farD2 = i, d2
+			}
+		}
+		if far >= 0 {
+			keep[far] = true
+			stack = append(stack, [2]int{far, hi}, [2]int{lo, far})
+		}
+	}
+	out := make([]int, 0, len(xy))
+	for i, k := range keep {
+		if k {
+			out = append(out, i)
+		}
+	}
+	return out
+}

@@ -48,6 +48,9 @@ const minCellM = 25.0
 //
 // A building with none of these is an ErrUnreachable *input.Problem.
 //
+// A pathway end more than SnapM inside a footprint that meets nothing there is cut back to
+// where the pathway crosses the wall (cutAtWalls), with one Warning.
+//
 // Beside the Access, every way into a building is one of its Entrances: each declared
 // entrance on a pathway or within MaxLateralM of one (each off the pathways gets its own
 // counted lateral, and the place where it joins becomes a junction), and each pathway end on
@@ -98,7 +101,7 @@ func BuildContext(ctx context.Context, c *Campus, opt Options) (*Network, error)
 		return nil, &b.errs
 	}
 	n := &Network{}
-	steps = []func(){b.cut, b.number, func() { b.spans(n) }, func() { b.junctions(n) }, func() { b.access(n) }, func() { b.entrances(n) }, func() { b.facts(n) }}
+	steps = []func(){b.cut, b.number, func() { b.spans(n) }, func() { b.cutAtWalls(n) }, func() { b.junctions(n) }, func() { b.access(n) }, func() { b.entrances(n) }, func() { b.facts(n) }}
 	if err := runSteps(ctx, steps); err != nil {
 		return nil, err
 	}
@@ -232,6 +235,7 @@ type builder struct {
 	entries [][]entry // per part, kept junction positions
 	pieces  []piece
 	rep     map[int]orb.Point // root → junction point
+	cutIn   map[string][]int  // pathway ID → the buildings (index) where cutAtWalls cut an end of it
 	ids     map[int]string    // root → junction ID
 	buf     []int32
 }
@@ -1082,10 +1086,11 @@ func (b *builder) spans(n *Network) {
 		}
 		var bends []float64
 		if len(pc.pts) > 2 {
-			bends = make([]float64, 0, len(pc.pts)-2)
-			for i := 1; i < len(pc.pts)-1; i++ {
-				bends = append(bends, deflectionDeg(b.proj.xy(pc.pts[i-1]), b.proj.xy(pc.pts[i]), b.proj.xy(pc.pts[i+1])))
+			xy := make([]vec, len(pc.pts))
+			for i, p := range pc.pts {
+				xy[i] = b.proj.xy(p)
 			}
+			bends = bendsDeg(xy)
 		}
 		n.Spans = append(n.Spans, Span{
 			ID: id, PathwayID: pw.ID, From: b.ids[pc.from], To: b.ids[pc.to],
@@ -1274,6 +1279,9 @@ func (b *builder) crossings() {
 			}
 		}
 		pa, pb := b.c.Pathways[b.parts[cr.pa].pw], b.c.Pathways[b.parts[cr.pb].pw]
+		if b.cutOff(pa.ID, cr.at) || b.cutOff(pb.ID, cr.at) {
+			continue // on a stretch inside a building that cutAtWalls left off
+		}
 		b.warns = append(b.warns, warnRec{pa.Source, pa.ID, fmt.Sprintf(
 			"pathways %q and %q cross at %s, %s with no shared vertex or structure; they are not joined there",
 			pa.ID, pb.ID, fmtLL(cr.at[0]), fmtLL(cr.at[1]))})

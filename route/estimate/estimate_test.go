@@ -840,7 +840,8 @@ func TestInsideWorkNotTray(t *testing.T) {
 	}
 }
 
-// tapCampus: hub A's duct D runs from inside A at (0, 0) east to handhole HH at (200, 0). S
+// tapCampus: hub A's duct D runs from inside A at (0, 0) east to handhole HH at (200, 0) (Build
+// cuts it at A's wall, x = 10: D is 190 m of outside plant). S
 // (at 100, 30) and T (at 200, 30) have no pathway: each is reached by a counted lateral of
 // 20 m from its footprint (y = 20) south to D. S's lateral taps the side of D at (100, 0),
 // where no structure is; T's ends in HH.
@@ -882,8 +883,8 @@ func TestLateralTap(t *testing.T) {
 		link, joint string
 		next        float64 // the length of the pull after the lateral, along D
 	}{
-		{"A-S", c.TapJunctions[0], 100},
-		{"A-T", "HH", 200},
+		{"A-S", c.TapJunctions[0], 90},
+		{"A-T", "HH", 190},
 	} {
 		i, leg := testplan.LegOf(t, r, tc.link)
 		var ps []estimate.PullSection
@@ -924,10 +925,11 @@ func TestLateralTap(t *testing.T) {
 }
 
 // TestLateralCarriesDuct: duct E runs from inside hub A at (0, 0) east to (100, 0) and ends
-// there, at no structure; U (at 100, 30) is reached by a counted lateral of 20 m south to E's
-// end, where it carries E on with a 90° turn. No handhole is added; the one pull from U to A
-// takes the lateral, its turn and E (TIA-569 counts that bend towards the 180° between pull
-// points), 120 m with 90° of bends (lengths within 0.5 m: the pull grid's metres are geodesic).
+// there, at no structure; Build cuts it at A's wall (x = 10). U (at 100, 30) is reached by a
+// counted lateral of 20 m south to E's end, where it carries E on with a 90° turn. No handhole
+// is added; the one pull from U to A takes the lateral, its turn and E (TIA-569 counts that
+// bend towards the 180° between pull points), 20 + 90 = 110 m with 90° of bends (lengths
+// within 0.5 m: the pull grid's metres are geodesic).
 func TestLateralCarriesDuct(t *testing.T) {
 	t.Parallel()
 	e := fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":"E","type":"duct"},"geometry":{"type":"LineString","coordinates":[[%.7f,%.7f],[%.7f,%.7f]]}}`,
@@ -945,8 +947,8 @@ func TestLateralCarriesDuct(t *testing.T) {
 		t.Fatalf("pulls %+v, want one", r.Estimate.Pulls)
 	}
 	p := r.Estimate.Pulls[0]
-	if p.From.ID != "U" || p.To.ID != "A" || math.Abs(p.LengthM-120) > 0.5 || math.Abs(p.BendDeg-90) > 0.5 || p.Lateral != leg.EntranceTo {
-		t.Errorf("pull %+v, want U to A, 120 m, 90° of bends, with U's lateral", p)
+	if p.From.ID != "U" || p.To.ID != "A" || math.Abs(p.LengthM-110) > 0.5 || math.Abs(p.BendDeg-90) > 0.5 || p.Lateral != leg.EntranceTo {
+		t.Errorf("pull %+v, want U to A, 110 m, 90° of bends, with U's lateral", p)
 	}
 	if got, want := p.SpansText(), "lateral of "+leg.EntranceTo+" E"; got != want {
 		t.Errorf("pull runs along %q, want %q", got, want)
@@ -972,8 +974,8 @@ func TestLateralCarriesDuctAtHub(t *testing.T) {
 		t.Fatalf("pulls %+v, want one", r.Estimate.Pulls)
 	}
 	p := r.Estimate.Pulls[0]
-	if p.From.ID != "A" || p.To.ID != "U" || math.Abs(p.LengthM-120) > 0.5 || math.Abs(p.BendDeg-90) > 0.5 || p.Lateral != leg.EntranceFrom {
-		t.Errorf("pull %+v, want A to U, 120 m, 90° of bends, with U's lateral", p)
+	if p.From.ID != "A" || p.To.ID != "U" || math.Abs(p.LengthM-110) > 0.5 || math.Abs(p.BendDeg-90) > 0.5 || p.Lateral != leg.EntranceFrom {
+		t.Errorf("pull %+v, want A to U, 110 m, 90° of bends, with U's lateral", p)
 	}
 	if got, want := p.SpansText(), "E lateral of "+leg.EntranceFrom; got != want {
 		t.Errorf("pull runs along %q, want %q", got, want)

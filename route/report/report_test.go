@@ -180,7 +180,7 @@ func TestPlanContent(t *testing.T) {
 		"Cost by category", money(s.TotalCents) + " USD", "budget " + money(*s.BudgetCents),
 		// The gap to the bound as the terminal prints it (output.GapText, in percent).
 		", gap " + output.GapText(s.GapPct) + " <span",
-		"14,062.8 m", // total route of the demo, as summary.json has it
+		"13,958.8 m", // total route of the demo, as summary.json has it
 		// The safety cautions of the README.
 		"one-call service", "invisible", "NFPA 70 Articles 800/805", "ground potential rise", "confined spaces",
 		"authority having jurisdiction",
@@ -220,8 +220,8 @@ func TestPlanContent(t *testing.T) {
 // TestPlanImperial shows lengths in feet (1 ft = 0.3048 m exactly).
 func TestPlanImperial(t *testing.T) {
 	html := render(t, demoPlan, Options{Units: output.UnitsImperial})
-	// 14 062.8 m / 0.3048 = 46 137.8 ft.
-	if !strings.Contains(html, "46,137.8 ft") {
+	// 13 958.8 m / 0.3048 = 45 796.6 ft.
+	if !strings.Contains(html, "45,796.6 ft") {
 		t.Error("imperial report lacks the total route in feet")
 	}
 	if !strings.Contains(html, "lengths in ft") || !strings.Contains(html, "Tension (lbf)") {

@@ -1,6 +1,7 @@
 package site
 
 import (
+	"container/heap"
 	"math"
 	"sort"
 
@@ -189,3 +190,60 @@ func (e edge) From() graph.Node         { return e.f }
 func (e edge) To() graph.Node           { return e.t }
 func (e edge) ReversedEdge() graph.Edge { return edge{f: e.t, t: e.f, span: e.span, w: e.w} }
 func (e edge) Weight() float64          { return e.w }
+
+// DistancesM returns, by node ID, the length in metres of the lightest path over usable spans
+// from any of the sources (node ID → the length it starts at, ≥ 0) to each node; +Inf where
+// none reaches. It is Dijkstra's algorithm started from every source at once, so a node's
+// answer is the least over the sources of the start plus the path.
+func (g *Graph) DistancesM(sources map[int64]float64) []float64 {
+	dist := make([]float64, len(g.adj))
+	for i := range dist {
+		dist[i] = math.Inf(1)
+	}
+	var q nodeQueue
+	for n, d := range sources {
+		if d < 0 || math.IsNaN(d) {
+			panic("route: negative or NaN start length")
+		}
+		if d < dist[n] {
+			dist[n] = d
+			heap.Push(&q, queued{n, d})
+		}
+	}
+	for q.Len() > 0 {
+		x := heap.Pop(&q).(queued)
+		if x.d > dist[x.n] {
+			continue // a stale entry: the node was reached shorter since
+		}
+		for _, h := range g.adj[x.n] {
+			if d := x.d + g.weight[h.span]; d < dist[h.to] {
+				dist[h.to] = d
+				heap.Push(&q, queued{h.to, d})
+			}
+		}
+	}
+	return dist
+}
+
+// queued is a node waiting in DistancesM's queue with the length it was reached at.
+type queued struct {
+	n int64
+	d float64
+}
+
+// nodeQueue is a binary heap of queued nodes, shortest first, then by node ID, so the order
+// nodes settle in is fixed.
+type nodeQueue []queued
+
+func (q nodeQueue) Len() int { return len(q) }
+func (q nodeQueue) Less(i, j int) bool {
+	return q[i].d < q[j].d || (q[i].d == q[j].d && q[i].n < q[j].n)
+}
+func (q nodeQueue) Swap(i, j int) { q[i], q[j] = q[j], q[i] }
+func (q *nodeQueue) Push(x any)   { *q = append(*q, x.(queued)) }
+func (q *nodeQueue) Pop() any {
+	old := *q
+	x := old[len(old)-1]
+	*q = old[:len(old)-1]
+	return x
+}

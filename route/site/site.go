@@ -3,10 +3,10 @@ package site
 import (
 	"context"
 	"io/fs"
+	"math"
 	"sync"
 
 	lru "github.com/hashicorp/golang-lru/v2"
-	"gonum.org/v1/gonum/graph/path"
 
 	"spanwright/geo"
 	"spanwright/geo/gpkg"
@@ -173,20 +173,51 @@ func (s *Site) distancesFrom(id string) map[string]float64 {
 	return d
 }
 
+// computeDistances measures from every entrance of building id at once (each starting at
+// its counted lateral) to every entrance of every building, and keeps each building's
+// nearest: a building with a pathway end that joins nothing (a dangling lateral) is as near
+// as its other entrances make it.
 func (s *Site) computeDistances(id string) map[string]float64 {
-	a, ok := s.access[id]
-	if !ok {
+	src := map[int64]float64{}
+	for _, e := range s.entriesOf(id) {
+		if n, ok := s.Graph.NodeOf(e.Junction); ok {
+			if d, seen := src[n]; !seen || e.LateralM < d {
+				src[n] = e.LateralM
+			}
+		}
+	}
+	if len(src) == 0 {
 		return nil
 	}
-	src, _ := s.Graph.NodeOf(a.Junction)
-	sh := path.DijkstraFrom(s.Graph.Node(src), s.Graph)
+	dist := s.Graph.DistancesM(src)
 	out := make(map[string]float64, len(s.access))
-	for b, ab := range s.access {
-		n, _ := s.Graph.NodeOf(ab.Junction)
-		d := sh.WeightTo(n)
-		if d < 1e300 {
-			out[b] = d + a.LateralM + ab.LateralM
+	for _, b := range s.Campus.Buildings {
+		best := math.Inf(1)
+		for _, e := range s.entriesOf(b.ID) {
+			if n, ok := s.Graph.NodeOf(e.Junction); ok {
+				best = min(best, dist[n]+e.LateralM)
+			}
 		}
+		if !math.IsInf(best, 1) {
+			out[b.ID] = best
+		}
+	}
+	return out
+}
+
+// entriesOf is every way into building b (geo.Network.EntrancesOf), or its access alone for
+// a building assembled by hand with an Access and no Entrances.
+func (s *Site) entriesOf(b string) []geo.Access {
+	es := s.Net.EntrancesOf(b)
+	if len(es) == 0 {
+		if a, ok := s.access[b]; ok {
+			return []geo.Access{a}
+		}
+		return nil
+	}
+	out := make([]geo.Access, len(es))
+	for i, e := range es {
+		out[i] = e.Access
 	}
 	return out
 }

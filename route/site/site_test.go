@@ -155,8 +155,10 @@ func TestGraphParallelSpans(t *testing.T) {
 	g := s.Graph
 	a, _ := g.NodeOf(s.Access("A").Junction)
 	c, _ := g.NodeOf(s.Access("C").Junction)
-	if d := path.DijkstraFrom(g.Node(a), g).WeightTo(c); math.Abs(d-(15+100+15)) > 0.5 {
-		t.Errorf("A to C: got %.2f m, want about 130 m", d)
+	// Each building's pathway runs 10 m from the street to its wall (drawn 5 m on inside
+	// the footprint, which Build cuts at the wall).
+	if d := path.DijkstraFrom(g.Node(a), g).WeightTo(c); math.Abs(d-(10+100+10)) > 0.5 {
+		t.Errorf("A to C: got %.2f m, want about 120 m", d)
 	}
 	g2 := site.NewGraph(s.Net)
 	g2.SetWeight(func(sp *geo.Span) float64 {
@@ -165,7 +167,7 @@ func TestGraphParallelSpans(t *testing.T) {
 		}
 		return sp.LengthM
 	})
-	want := 15 + 2*math.Hypot(50, 30) + 15
+	want := 10 + 2*math.Hypot(50, 30) + 10
 	if d := path.DijkstraFrom(g2.Node(a), g2).WeightTo(c); math.Abs(d-want) > 0.5 {
 		t.Errorf("A to C without ST: got %.2f m, want about %.1f m over the parallel duct", d, want)
 	}
@@ -319,5 +321,61 @@ func TestSiteFacts(t *testing.T) {
 	const want = "building I is cut off from A: the pathways that reach it (DI) join none that reaches A; near misses: pathway DI ends 1.0 m from pathway S, beyond snap_m 0.5"
 	if !strings.HasPrefix(why, want) {
 		t.Errorf("cut-off reason:\n got %s\nwant %s", why, want)
+	}
+}
+
+func TestLinksNearestOverAnyEntrance(t *testing.T) {
+	t.Parallel()
+	// B (ic) has two pathway ends in its footprint: S-B to the street and B-L2, drawn from
+	// 60 m north and joined to nothing (a lateral whose network end was pulled back). Build
+	// picks B-L2's end as B's one access; D and E are still nearer B than A over S-B.
+	const lat = 52.0
+	degX := func(m float64) float64 { return -1 + m/(111320*math.Cos(lat*math.Pi/180)) }
+	degY := func(m float64) float64 { return lat + m/111000 }
+	dangle := fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":"B-L2"},"geometry":{"type":"LineString","coordinates":[[%.7f,%.7f],[%.7f,%.7f]]}}`,
+		degX(505), degY(60), degX(505), degY(25))
+	s := lineCampus(t, []string{"A", "C", "D", "B", "E"}, []float64{0, 100, 400, 500, 600}, map[string]string{"A": "mc", "B": "ic"}, dangle)
+	var via []string
+	for _, sp := range s.Net.Spans {
+		if a := s.Access("B").Junction; sp.From == a || sp.To == a {
+			via = append(via, sp.PathwayID)
+		}
+	}
+	if !slices.Equal(via, []string{"B-L2"}) {
+		t.Fatalf("B's access is on %v, want B-L2 (the case this test is about)", via)
+	}
+	p := plan.Default
+	p.File = "plan.yaml"
+	links, _, errs := s.Links(&p, "A")
+	if len(errs) > 0 {
+		t.Fatal(errs)
+	}
+	var got []string
+	for _, l := range links {
+		got = append(got, l.ID)
+	}
+	// ANSI/TIA-568 hierarchical star: each served building to its nearest cross-connect, by
+	// the network between any entrance of one and any entrance of the other.
+	if want := "A-B A-C B-D B-E"; strings.Join(got, " ") != want {
+		t.Errorf("default links: got %v, want %s", got, want)
+	}
+}
+
+func TestGraphDistancesFromSeveral(t *testing.T) {
+	t.Parallel()
+	// Dijkstra from two sources at once, each with a start length, against gonum's
+	// single-source Dijkstra (gonum.org/v1/gonum/graph/path) run from each: the least of the
+	// two starts plus path, at every node.
+	s := lineCampus(t, []string{"A", "C", "D", "B", "E"}, []float64{0, 100, 400, 500, 600}, nil, "")
+	g := s.Graph
+	a, _ := g.NodeOf(s.Access("A").Junction)
+	b, _ := g.NodeOf(s.Access("B").Junction)
+	got := g.DistancesM(map[int64]float64{a: 3, b: 40})
+	fromA, fromB := path.DijkstraFrom(g.Node(a), g), path.DijkstraFrom(g.Node(b), g)
+	for n := range got {
+		want := min(3+fromA.WeightTo(int64(n)), 40+fromB.WeightTo(int64(n)))
+		if math.Abs(got[n]-want) > 1e-9 {
+			t.Errorf("node %s: got %.3f m, want %.3f m", g.Junction(int64(n)), got[n], want)
+		}
 	}
 }
