@@ -351,13 +351,9 @@ func objectiveOf(r *route.Result, prob *optimize.Problem, pb *media.PriceBook, l
 			}
 		}
 	}
-	for _, h := range r.Handholes {
-		for _, ch := range prob.Charges {
-			if ch.ID == "handhole at "+h.Junction {
-				c += ch.Cents
-			}
-		}
-	}
+	// One handhole per junction the plan adds one at, whatever its reasons (a junction's charge,
+	// or the tap of a building with one entrance, which the objective pays as a constant).
+	c += int64(len(r.Handholes)) * pb.Cents(items.JoinHandholes(1))
 	// Turn edges carry the crew's work at the handhole a route turns in, per cable.
 	for i := range r.Legs {
 		if l := &r.Legs[i]; l.Feasible {
@@ -372,7 +368,7 @@ func objectiveOf(r *route.Result, prob *optimize.Problem, pb *media.PriceBook, l
 	// with one the constant part of the objective (routing.Routed.ConstantCents).
 	for _, en := range r.Estimate.Construction.Entrances {
 		if en.Single {
-			for _, q := range items.Entrance(pb, r.Plan.Design, en.LateralM, en.Built, en.Tap != "") {
+			for _, q := range items.Entrance(pb, r.Plan.Design, en.LateralM, en.Built) {
 				c += pb.Cents(q)
 			}
 			for _, q := range items.BidPer(pb, media.BidBases{NewBuriedM: 1}) {

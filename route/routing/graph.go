@@ -38,10 +38,14 @@ import (
 //     duct, as a facilities GIS splits one where another joins it) joined by turn edges of no
 //     length: a route that turns there from one run into another takes a turn edge
 //     (geo.PassNeedsStructure).
-//   - A handhole at a junction without a structure — where the route turns (a turn edge), or
-//     where new pathway joins the network (an opened proposed span ends, site.JoinsNetwork) —
-//     is one charge (optimize.Charge) over those edges, paid once however many routes use it:
-//     the model's count of added handholes is the bill's.
+//   - A handhole at a junction without a structure — where the route turns (a turn edge),
+//     where new pathway joins the network (an opened proposed span ends, site.JoinsNetwork),
+//     or where the counted lateral of an entrance used taps a duct (the entrance edges of a
+//     building with several entrances, site.Site.TapOf) — is one charge (optimize.Charge) over
+//     all those edges, paid once however many routes use it and for however many reasons: the
+//     model's count of added handholes is the bill's. The lateral of a building with one
+//     entrance is used whatever the routes, so its tap's handhole is paid as a constant and
+//     the junction's charge costs nothing (problem; Routed.ConstantCents).
 
 // edgeKind tells an edge of the optimizer's graph that no span draws.
 type edgeKind int
@@ -62,7 +66,8 @@ type extraEdge struct {
 }
 
 // junctionCharge is a handhole the plan may add at a junction without a structure: the edges
-// that need it (turn edges there, opened proposed spans that end there).
+// that need it (turn edges there, opened proposed spans that end there, entrance edges whose
+// counted lateral taps a duct there).
 type junctionCharge struct {
 	junction string
 	edges    []int
@@ -305,7 +310,15 @@ func newLayout(s *site.Site) *layout {
 	}
 	l.groups = group - firstGroup
 	l.numberClasses(net)
-	// Turn edges and the handholes they and opened spans may need.
+	// The entrance edges whose counted lateral taps a duct, by junction: they need the
+	// junction's handhole.
+	tapEdges := map[string][]int{}
+	for _, en := range l.entrances {
+		if s.TapOf(en.entry) {
+			tapEdges[en.entry.Junction] = append(tapEdges[en.entry.Junction], en.edges...)
+		}
+	}
+	// Turn edges and the handholes they, opened spans and tapping laterals may need.
 	for j, jn := range net.Junctions {
 		var c junctionCharge
 		if turnAt[j] {
@@ -324,6 +337,7 @@ func newLayout(s *site.Site) *layout {
 				}
 			}
 		}
+		c.edges = append(c.edges, tapEdges[jn.ID]...)
 		if len(c.edges) > 0 {
 			c.junction = jn.ID
 			slices.Sort(c.edges)
