@@ -292,7 +292,9 @@ func PullPoint(s *site.Site, j string) bool { return s.IsStructure(j) }
 // JoinEnds counts the ends of span sp where a route along it passes a handhole the plan adds
 // because new pathway joins the network there (site.JoinsNetwork): the ends of a proposed
 // span at such junctions. Each is a pull point and a handhole entered. A route from one new
-// span into another at such a junction counts it twice (README, "One cost model").
+// span into another at such a junction counts it twice (README, "One cost model"). A route
+// that turns into or out of it there lists no turn (routing.Leg.Turns): this is its one pass
+// through that handhole (the optimizer shares it with the turn edge, routing's turnShare).
 func JoinEnds(s *site.Site, sp *geo.Span) float64 {
 	if sp.Status != geo.StatusProposed {
 		return 0

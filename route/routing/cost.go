@@ -234,7 +234,10 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 		// demand's (demand).
 		loops := (items.LoopM(s, d, sp.From) + items.LoopM(s, d, sp.To)) / 2
 		pull, entered := crewHalves(s, sp.From, sp.To)
-		hh := float64(runHH[sp.ID]) + items.JoinEnds(s, sp)
+		// Handholes along its run, and where it joins the network (half of one where it is a
+		// run of its own at a junction split for turns: the turn edge carries the other half,
+		// layout.turnShare).
+		hh := float64(runHH[sp.ID]) + items.JoinEnds(s, sp) - 0.5*float64(lay.joinEnds[i])
 		e := optimize.Edge{ID: sp.ID, From: int(u), To: int(v), LengthM: sp.LengthM, CableM: items.Wasted(d, sp.LengthM+loops),
 			PerCableCents: m.cents(items.AlongSpan(d, sp.Type, sp.LengthM)...) + m.cents(items.StructureLoops(loops)...) +
 				m.cents(items.AtJunctions(m.prices, pull+hh, entered+hh)...) + m.bidPer(media.BidBases{Structures: 1}, entered),
@@ -286,8 +289,10 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 			pull, entered := crewHalves(s, x.junction)
 			e.PerCableCents += m.cents(items.AtJunctions(m.prices, pull, entered)...) + m.bidPer(media.BidBases{Structures: 1}, entered)
 		case edgeTurn:
-			// The handhole added where the route turns: a pull point the crew enters.
-			e.ID, e.PerCableCents = "turn at "+x.junction, m.cents(items.AtJunctions(m.prices, 1, 1)...)
+			// The handhole added where the route turns: a pull point the crew enters (its
+			// share, when a joining span's run is at one end: layout.turnShare).
+			share := float64(lay.turnShare(x.from, x.to)) / 2
+			e.ID, e.PerCableCents = "turn at "+x.junction, m.cents(items.AtJunctions(m.prices, share, share)...)
 		}
 		p.Edges = append(p.Edges, e)
 	}
