@@ -5,6 +5,7 @@ import (
 	"os"
 	"path/filepath"
 	"slices"
+	"strings"
 	"testing"
 
 	"spanwright/route"
@@ -115,6 +116,56 @@ func TestOneHandholePerJunction(t *testing.T) {
 		}
 		if after-before != 100_000 {
 			t.Errorf("%s: the bill's junction handholes moved by %d cents, want 100000", tc.name, after-before)
+		}
+	}
+}
+
+// TestNoSharpRun plans the three campuses where runs of duct used to chain (geo.Network.RunsAt
+// joined spans transitively), each with junction J at (200, 0) and no structure there: a leg
+// that goes straight on keeps its duct, the leg that the chain took "straight" through a
+// sharp turn now turns at J, and the plan bills the handhole it turns in (common practice,
+// no published source; TIA-569's pull point after at most two 90° bends of conduit is the
+// related published rule, from memory).
+func TestNoSharpRun(t *testing.T) {
+	t.Parallel()
+	aerial := func(feature string) string { return strings.Replace(feature, `"type":"duct"`, `"type":"aerial"`, 1) }
+	for _, tc := range []struct {
+		name            string
+		features        []string
+		straight, turns string // the links that go straight on at J and that turn there
+	}{
+		// Street S from A east to B; lateral duct L leaves J 14° off the street's west piece,
+		// back to C: A-C used to go "straight" from S's west piece into L, a 166° hairpin.
+		{"hairpin", []string{testsite.Box("A", "mc", 0, 0), testsite.Box("B", "", 410, 0), testsite.Box("C", "", 0, 60),
+			duct("S", 0, 0, 200, 0, 400, 0), duct("L", 200, 0, 0, 50)}, "A-B", "A-C"},
+		// A narrow fork: F0 from A forks at J into F1 (5° off) and F2 (15° off).
+		{"fork", []string{testsite.Box("A", "mc", 0, 0), testsite.Box("B", "", 410, 17), testsite.Box("C", "", 410, -54),
+			duct("F0", 0, 0, 200, 0), duct("F1", 200, 0, 400, 17), duct("F2", 200, 0, 400, -54)}, "A-B", "A-C"},
+		// Duct D1 from A carried on by aerial span X to B; duct D2 leaves J 10° off D1, back to
+		// C: A-C used to pass from D1 into D2 "straight", a 170° hairpin, both chained to X.
+		{"duct, aerial, duct", []string{testsite.Box("A", "mc", 0, 0), testsite.Box("B", "", 410, 0), testsite.Box("C", "", 0, 45),
+			duct("D1", 0, 0, 200, 0), aerial(duct("X", 200, 0, 400, 0)), duct("D2", 200, 0, 0, 35)}, "A-B", "A-C"},
+	} {
+		r, err := testplan.PullSolveJSON(t, collection(tc.features...), nil)
+		if err != nil {
+			t.Fatalf("%s: %v", tc.name, err)
+		}
+		var j string
+		for _, jn := range r.Site.Net.Junctions {
+			if jn.Point == testsite.Point(200, 0) {
+				j = jn.ID
+			}
+		}
+		for _, l := range r.Legs {
+			if want := l.Link.ID == tc.turns; !l.Feasible || slices.Contains(l.Turns, j) != want {
+				t.Errorf("%s: leg %s feasible %v (%s), turns %q; want a turn at %s: %v", tc.name, l.Link.ID, l.Feasible, l.Reason, l.Turns, j, want)
+			}
+		}
+		if c := r.Estimate.Construction; !slices.Equal(c.TurnJunctions, []string{j}) {
+			t.Errorf("%s: turn handholes at %q, want one at %s", tc.name, c.TurnJunctions, j)
+		}
+		if got := testplan.BOMQty(r.Estimate.BOM, "handhole where a route turns between pathways"); got != 1 {
+			t.Errorf("%s: %v turn handholes billed, want 1", tc.name, got)
 		}
 	}
 }
