@@ -99,7 +99,7 @@ type layout struct {
 	// joinNode marks, by node, a run of one proposed span at a junction split for turns where
 	// new pathway joins the network (site.JoinsNetwork): a route along that span passes the
 	// handhole its joining adds, turning there or not. joinEnds counts, by span index, the ends
-	// of each such span (crewShares).
+	// of each such span (turnShare).
 	joinNode  []bool
 	joinEnds  map[int]int
 	charges   []junctionCharge
@@ -388,7 +388,10 @@ func (l *layout) isJoin(n int) bool { return n < len(l.joinNode) && l.joinNode[n
 // A route from a street into the joining span pays ½ + ½, one from one street into another
 // over the joining span's node ½ + ½, one straight on along the street nothing. turnsListed
 // gives the turns the leg lists for a pass over turn edges, so that the bill (turns listed
-// and JoinEnds, in wholes) counts what the optimizer counted.
+// and JoinEnds, in wholes) counts what the optimizer counted. (A route that reached a joining
+// span's node by an entrance edge, not along the span, and turned on would pay the optimizer
+// half a share less than the bill; the entrance has an edge to every run there, so no plan
+// takes that way.)
 
 // turnShare is the crew share, in halves, of the turn edge between nodes u and v.
 func (l *layout) turnShare(u, v int) int {
