@@ -1,6 +1,7 @@
 package geo
 
 import (
+	"cmp"
 	"fmt"
 	"math"
 	"slices"
@@ -192,6 +193,12 @@ func (n *Network) PassAt(junction, from, to string) (p Pass, ok bool) {
 // published source).
 const straightOnDeg = 30
 
+// maxBendDeg is the largest deflection, in degrees, of a bend of one duct where two features
+// meet (RunsAt's third rule): a conduit bend is at most a 90° sweep (TIA-569's limit for one
+// bend between pull points, from memory); two ducts that meet at a sharper angle are turned
+// between in a structure.
+const maxBendDeg = 90
+
 // sameDucts reports whether spans a and b carry the same ducts, as far as the campus says:
 // the same pathway type and status, the same spare ducts and duct size, and no two different
 // shared-risk groups given (a group left out is the pathway's own id, which says nothing).
@@ -206,22 +213,33 @@ func sameDucts(a, b *Span) bool {
 // RunsAt groups spans, the spans ending at junction j as indices into Spans in index order,
 // into runs of duct through j: a cable carried from one span into another of its run stays in
 // its duct, from one run into another it turns (at a junction without a structure, a turn
-// that needs one built). It joins two spans when
+// that needs one built). A duct carries on into at most one other, so a run is one span or
+// two: RunsAt matches the spans in pairs, greedily, each pair taken when neither of its spans
+// is taken yet, in this order of priority (and within one, the straighter pair first):
 //
-//   - they are pieces of one pathway drawn through j;
-//   - one carries on from the other within straightOnDeg (a duct bank drawn as several
-//     pathways);
-//   - they carry the same ducts (sameDucts) and are each other's one way on, the turn between
-//     them (a bend of the duct) the least at j for both by at least straightOnDeg and neither
-//     carried on straight (within straightOnDeg) by another span of its type and status nor
-//     by a piece of its own pathway: one duct drawn as two features that meet at its bend,
-//     where another pathway joins. A third span that carries on straight from one of them, of
-//     another kind (new trench from an existing duct), is a run of its own, joined by the
-//     second rule.
+//  1. pieces of one pathway drawn through j;
+//  2. two spans of one type and status, one carrying on from the other within straightOnDeg
+//     (a duct bank drawn as several pathways);
+//  3. two spans that carry the same ducts (sameDucts) and are each other's one way on, the
+//     turn between them (a bend of the duct, at most maxBendDeg) the least at j for both by
+//     at least straightOnDeg and neither carried on straight (within straightOnDeg) by
+//     another span of its type and status nor by a piece of its own pathway: one duct drawn
+//     as two features that meet at its bend, where another pathway joins;
+//  4. two spans of different kinds, one carrying on from the other within straightOnDeg (new
+//     trench from an existing duct, an aerial span from a duct riser).
+//
+// So a run never turns sharply: a lateral within straightOnDeg of one piece of a street is
+// not carried on into the other piece, and a narrow fork's branches, or duct, aerial and duct
+// again, are not one run (before, runs were joined transitively and chained so). A cable goes
+// from one run into another in a handhole or pull box (common practice, no published source;
+// TIA-569's pull point after at most two 90° bends of conduit is the related published rule,
+// from memory): where new pathway joins there, the handhole it gets is that one (package
+// routing).
 //
 // The decision rests on the geometry and the spans' properties, never on their ids beyond
 // "the same pathway", so splitting a pathway into two features where another joins it changes
-// no run. Runs and the spans in each are in the order of spans. Time O(len(spans)²).
+// no run; equal priority and deflection are settled by span index. Runs are in the order of
+// their first span, the spans of each in the order of spans. Time O(k² log k) for k spans.
 func (n *Network) RunsAt(j string, spans []int) [][]int {
 	k := len(spans)
 	turn := make([][]float64, k) // turn[a][b]: the deflection from span a into span b at j
@@ -237,11 +255,11 @@ func (n *Network) RunsAt(j string, spans []int) [][]int {
 		}
 	}
 	span := func(a int) *Span { return &n.Spans[spans[a]] }
+	sameKind := func(a, b int) bool { return span(a).Type == span(b).Type && span(a).Status == span(b).Status }
 	carriedOn := make([]bool, k) // by a piece of its own pathway, or straight by its own kind
 	for a := range spans {
 		for b := range spans {
-			sa, sb := span(a), span(b)
-			if a != b && (sa.PathwayID == sb.PathwayID || (turn[a][b] <= straightOnDeg && sa.Type == sb.Type && sa.Status == sb.Status)) {
+			if a != b && (span(a).PathwayID == span(b).PathwayID || (turn[a][b] <= straightOnDeg && sameKind(a, b))) {
 				carriedOn[a] = true
 			}
 		}
@@ -268,40 +286,58 @@ func (n *Network) RunsAt(j string, spans []int) [][]int {
 				next = d
 			}
 		}
-		if best >= 0 && next-turn[a][best] >= straightOnDeg {
+		if best >= 0 && next-turn[a][best] >= straightOnDeg && turn[a][best] <= maxBendDeg {
 			bend[a] = best
 		}
 	}
-	rep := make([]int, k)
-	for i := range rep {
-		rep[i] = i
+	// The pairs that may be one run, each with its priority (1 to 4, as above).
+	type pair struct {
+		a, b, prio int
+		deg        float64
 	}
-	find := func(x int) int {
-		for rep[x] != x {
-			x = rep[x]
-		}
-		return x
-	}
+	var pairs []pair
 	for a := range spans {
 		for b := a + 1; b < k; b++ {
-			if span(a).PathwayID == span(b).PathwayID || turn[a][b] <= straightOnDeg || (bend[a] == b && bend[b] == a) {
-				if x, y := find(a), find(b); x != y {
-					rep[max(x, y)] = min(x, y)
-				}
+			deg := math.Max(turn[a][b], turn[b][a])
+			prio := 0
+			switch {
+			case span(a).PathwayID == span(b).PathwayID:
+				prio = 1
+			case deg <= straightOnDeg && sameKind(a, b):
+				prio = 2
+			case bend[a] == b && bend[b] == a:
+				prio = 3
+			case deg <= straightOnDeg:
+				prio = 4
+			}
+			if prio > 0 {
+				pairs = append(pairs, pair{a, b, prio, deg})
 			}
 		}
 	}
-	var runs [][]int
-	index := map[int]int{}
-	for a, i := range spans {
-		r := find(a)
-		k, ok := index[r]
-		if !ok {
-			k = len(runs)
-			index[r] = k
-			runs = append(runs, nil)
+	slices.SortStableFunc(pairs, func(x, y pair) int {
+		if x.prio != y.prio {
+			return x.prio - y.prio
 		}
-		runs[k] = append(runs[k], i)
+		return cmp.Compare(x.deg, y.deg)
+	})
+	mate := make([]int, k)
+	for i := range mate {
+		mate[i] = -1
+	}
+	for _, p := range pairs {
+		if mate[p.a] < 0 && mate[p.b] < 0 {
+			mate[p.a], mate[p.b] = p.b, p.a
+		}
+	}
+	var runs [][]int
+	for a, i := range spans {
+		switch m := mate[a]; {
+		case m < 0:
+			runs = append(runs, []int{i})
+		case m > a:
+			runs = append(runs, []int{i, spans[m]})
+		}
 	}
 	return runs
 }

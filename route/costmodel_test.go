@@ -11,6 +11,7 @@ import (
 	"testing"
 	"testing/fstest"
 
+	"spanwright/geo"
 	"spanwright/media"
 	"spanwright/route"
 	"spanwright/route/internal/campusgen"
@@ -351,19 +352,50 @@ func objectiveOf(r *route.Result, prob *optimize.Problem, pb *media.PriceBook, l
 			}
 		}
 	}
-	for _, h := range r.Handholes {
-		for _, ch := range prob.Charges {
-			if ch.ID == "handhole at "+h.Junction {
-				c += ch.Cents
+	// One handhole per junction the plan adds one at, whatever its reasons (a junction's charge,
+	// or the tap of a building with one entrance, which the objective pays as a constant).
+	c += int64(len(r.Handholes)) * pb.Cents(items.JoinHandholes(1))
+	// Turn edges carry the crew's work at the handhole a route turns in, per cable: one whole
+	// set-up and entry per turn the leg lists; a route into or out of new pathway that joins
+	// at a junction split for turns, where it is a run of its own, pays half of that on the
+	// turn edge and half on its span (routing's layout.turnShare), and lists no turn there.
+	cents := func(qs []media.Quantity) (c int64) {
+		for _, q := range qs {
+			c += pb.Cents(q)
+		}
+		return c
+	}
+	whole, half := cents(items.AtJunctions(pb, 1, 1)), cents(items.AtJunctions(pb, 0.5, 0.5))
+	splitFor := map[string]bool{}
+	for _, j := range r.Site.TurnsNeedingStructure() {
+		splitFor[j] = true
+	}
+	alone := func(sp *geo.Span, j string) bool { // a joining span, a run of its own at j
+		if sp.Status != geo.StatusProposed || !splitFor[j] || !r.Site.JoinsNetwork(j) {
+			return false
+		}
+		var at []int
+		for i := range r.Site.Net.Spans {
+			if s := &r.Site.Net.Spans[i]; s.From == j || s.To == j {
+				at = append(at, i)
 			}
 		}
+		for _, run := range r.Site.Net.RunsAt(j, at) {
+			if len(run) == 1 && r.Site.Net.Spans[run[0]].ID == sp.ID {
+				return true
+			}
+		}
+		return false
 	}
-	// Turn edges carry the crew's work at the handhole a route turns in, per cable.
 	for i := range r.Legs {
 		if l := &r.Legs[i]; l.Feasible {
-			for _, j := range l.Turns {
-				if e, ok := byID["turn at "+j]; ok {
-					c += e.PerCableCents
+			c += int64(len(l.Turns)) * whole
+			for _, st := range l.Steps {
+				sp, _ := r.Site.Net.Span(st.SpanID)
+				for _, j := range []string{sp.From, sp.To} {
+					if alone(&sp, j) {
+						c += half
+					}
 				}
 			}
 		}
@@ -372,7 +404,7 @@ func objectiveOf(r *route.Result, prob *optimize.Problem, pb *media.PriceBook, l
 	// with one the constant part of the objective (routing.Routed.ConstantCents).
 	for _, en := range r.Estimate.Construction.Entrances {
 		if en.Single {
-			for _, q := range items.Entrance(pb, r.Plan.Design, en.LateralM, en.Built, en.Tap != "") {
+			for _, q := range items.Entrance(pb, r.Plan.Design, en.LateralM, en.Built) {
 				c += pb.Cents(q)
 			}
 			for _, q := range items.BidPer(pb, media.BidBases{NewBuriedM: 1}) {

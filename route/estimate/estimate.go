@@ -166,11 +166,14 @@ type Construction struct {
 	// (Entrances with a LateralM): built whether or not the plan may open new spans.
 	LateralM   float64
 	AddedDuctM float64 // duct metres added: new duct in opened duct spans plus added ducts
-	// NewJunctions are the handholes where opened pathways join the network at a junction
-	// with no structure (common practice, no published source), by junction ID.
-	NewJunctions []string
-	// TurnJunctions are the handholes or pull boxes added where a route turns from one pathway
-	// into another at a junction with no structure (geo.PassNeedsStructure), by junction ID.
+	// NewJunctions, TapJunctions and TurnJunctions are the handholes the plan adds at
+	// junctions with no structure (routing.Routed.Handholes), each junction in one of them
+	// only, under the first of its reasons (routing.Handhole.Purpose), by junction ID in the
+	// network's order: NewJunctions where opened pathways join the network (common practice,
+	// no published source); TapJunctions where counted laterals of the Entrances tap the side
+	// of a duct (site.Site.Tap); TurnJunctions where a route turns from one pathway into
+	// another (geo.PassNeedsStructure).
+	NewJunctions  []string
 	TurnJunctions []string
 	// RunHandholes are the handholes placed along the opened runs of new construction
 	// (routing.Routed.Runs), in run order.
@@ -178,8 +181,7 @@ type Construction struct {
 	// Entrances are the building entrances the plan uses (routing.Routed.Entrances); their
 	// counted laterals are in TrenchM or BoreM and AddedDuctM.
 	Entrances []routing.EntranceUse
-	// TapJunctions are the handholes built where those laterals tap the side of a duct
-	// (site.Site.Tap), one per entrance, in the order of Entrances, by junction ID.
+	// TapJunctions: see NewJunctions.
 	TapJunctions []string
 	// Assumed is the new trench priced on the design's assumed_surface because the campus
 	// gives its pathway no surface (items.SurfaceAssumed), in the order it is counted: opened
@@ -868,16 +870,17 @@ func (r *run) construction() {
 		c.AddedDuctM += float64(max(design.NewDucts, 1)) * en.LateralM
 		c.LateralM += en.LateralM
 		r.newFrom[keyAddedDuct] = append(r.newFrom[keyAddedDuct], fromEntrance(en))
-		if en.Tap != "" {
-			c.TapJunctions = append(c.TapJunctions, en.Tap)
-		}
 	}
 	// The handholes are the routing's (routing.Routed.Handholes): the optimizer's charges it
-	// paid, so the bill counts what the model counted.
+	// paid and the taps of the entrances used, one per junction, so the bill counts what the
+	// model counted.
 	for _, h := range r.Handholes {
-		if h.Joins {
+		switch h.Purpose() {
+		case routing.PurposeJoin:
 			c.NewJunctions = append(c.NewJunctions, h.Junction)
-		} else {
+		case routing.PurposeTap:
+			c.TapJunctions = append(c.TapJunctions, h.Junction)
+		default:
 			c.TurnJunctions = append(c.TurnJunctions, h.Junction)
 		}
 	}
@@ -1104,7 +1107,7 @@ func (r *run) quantities() {
 	if len(con.TapJunctions) > 0 {
 		var at []string
 		for _, en := range con.Entrances {
-			if en.Tap != "" {
+			if en.Tap != "" && slices.Contains(con.TapJunctions, en.Tap) {
 				at = append(at, fromEntrance(en))
 			}
 		}
@@ -1117,7 +1120,7 @@ func (r *run) quantities() {
 		for _, en := range con.Entrances {
 			if en.Built == built {
 				at = append(at, fromEntrance(en))
-				q = items.Entrance(p, design, 0, built, false)
+				q = items.Entrance(p, design, 0, built)
 			}
 		}
 		if len(q) > 0 {

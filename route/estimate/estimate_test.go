@@ -856,7 +856,7 @@ func tapCampus() string {
 
 // TestLateralTap (lengths within 0.5 m: the pull grid's metres are geodesic): a counted lateral that taps the side of an existing duct gets a handhole
 // at the tap (common practice, no published source: a new duct cannot be joined into the side
-// of one in the ground), billed once per entrance as "handhole where a lateral taps a duct"
+// of one in the ground), billed once per junction as "handhole where a lateral taps a duct"
 // at the book's handhole price, and the pulling plan breaks there: the lateral is a pull of its
 // own, S to the tap, its 90° turn taken inside the handhole (TIA-569 counts bends between pull
 // points, and a pull point ends them), then the tap to A along D. T's lateral ends in the

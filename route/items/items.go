@@ -158,7 +158,10 @@ func AddedDuct(metres float64) media.Quantity {
 		Price: media.PriceKey{Item: media.PriceAddedDuct}}
 }
 
-// JoinHandholes is n handholes where new pathway joins the network.
+// JoinHandholes is n handholes where new pathway joins the network. The plan adds at most
+// one handhole at a junction, whatever its reasons (new pathway joins, a lateral taps a duct,
+// a route turns): each junction is counted under the first of them (routing.Handhole.Purpose),
+// and the optimizer prices a junction's handhole with this item (package routing, problem).
 func JoinHandholes(n int) media.Quantity {
 	return media.Quantity{Category: media.CategoryConstruction, Item: "handhole where new pathway joins the network",
 		Unit: media.UnitEach, Amount: float64(n), Price: media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole}}
@@ -186,9 +189,12 @@ func RunHandholes(n int) media.Quantity {
 // Entrance is what a building entrance a plan uses takes: its entry, and, when the campus
 // reaches it by a counted lateral of lateralM metres (no pathway drawn), that lateral built as
 // new construction is: trench or bore, restoration of the design's assumed surface, the
-// design's ducts, and when it taps the side of a duct (tap, site.Site.TapOf) the handhole
-// built there (TapHandholes). Cables in the lateral are pulled in duct (LegEnds), and a crew
-// sets up a pull at the tap's handhole and enters it (TapCrew).
+// design's ducts. Cables in the lateral are pulled in duct (LegEnds). When the lateral taps
+// the side of a duct (site.Site.TapOf), the handhole built there (TapHandholes) is not the
+// entrance's but its junction's: one per junction, whatever else the plan adds it for (a
+// route turning there, new pathway joining there, another lateral tapping there; package
+// routing, layout, and README "One cost model"); a crew still sets up a pull at it and enters
+// it, per cable (TapCrew).
 //
 // The entry is the one decision of what a wall costs (README, "Building entry"): a new one
 // (wall penetration, sleeve or entrance conduit, firestop) at building_entrance_each; one that
@@ -196,7 +202,7 @@ func RunHandholes(n int) media.Quantity {
 // needs only the cables firestopped through its sleeve, at entrance_firestop_each, or at
 // building_entrance_each when the book has no such price (the dearer, rather than nothing).
 // A book with neither prices no entry.
-func Entrance(p *media.PriceBook, d plan.Design, lateralM float64, built, tap bool) []media.Quantity {
+func Entrance(p *media.PriceBook, d plan.Design, lateralM float64, built bool) []media.Quantity {
 	var q []media.Quantity
 	switch {
 	case built && p.Has(media.PriceFirestop):
@@ -209,15 +215,13 @@ func Entrance(p *media.PriceBook, d plan.Design, lateralM float64, built, tap bo
 	if lateralM > 0 {
 		lat := &geo.Span{Type: geo.TypeDuct, LengthM: lateralM}
 		q = append(q, Opening(d, lat, MethodOf(p, d, lat))...)
-		if tap {
-			q = append(q, TapHandholes(1))
-		}
 	}
 	return q
 }
 
 // TapHandholes is n handholes built where a counted lateral taps the side of a duct
-// (site.Site.Tap), priced as the other handholes the plan adds.
+// (site.Site.Tap), priced as the other handholes the plan adds; a junction is counted once,
+// under the first of its reasons (routing.Handhole.Purpose).
 func TapHandholes(n int) media.Quantity {
 	return media.Quantity{Category: media.CategoryConstruction, Item: "handhole where a lateral taps a duct",
 		Unit: media.UnitEach, Amount: float64(n), Price: media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole}}
@@ -288,7 +292,9 @@ func PullPoint(s *site.Site, j string) bool { return s.IsStructure(j) }
 // JoinEnds counts the ends of span sp where a route along it passes a handhole the plan adds
 // because new pathway joins the network there (site.JoinsNetwork): the ends of a proposed
 // span at such junctions. Each is a pull point and a handhole entered. A route from one new
-// span into another at such a junction counts it twice (README, "One cost model").
+// span into another at such a junction counts it twice (README, "One cost model"). A route
+// that turns into or out of it there lists no turn (routing.Leg.Turns): this is its one pass
+// through that handhole (the optimizer shares it with the turn edge, routing's turnShare).
 func JoinEnds(s *site.Site, sp *geo.Span) float64 {
 	if sp.Status != geo.StatusProposed {
 		return 0
@@ -314,7 +320,10 @@ func AtJunctions(p *media.PriceBook, pullPoints, entered float64) []media.Quanti
 }
 
 // TurnHandholes is n handholes or pull boxes added where a route turns from one pathway into
-// another at a junction without a structure.
+// another at a junction without a structure (common practice, no published source: a cable
+// leaves one duct for another only where someone can reach in; TIA-569's pull point after at
+// most two 90° bends of conduit is the related published rule, from memory), counted once per
+// junction as JoinHandholes says.
 func TurnHandholes(n int) media.Quantity {
 	return media.Quantity{Category: media.CategoryConstruction, Item: "handhole where a route turns between pathways",
 		Unit: media.UnitEach, Amount: float64(n), Price: media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole}}

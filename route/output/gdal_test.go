@@ -116,7 +116,7 @@ func TestGeoPackageGDAL(t *testing.T) {
 		LayerLegs:         "Line String " + strconv.Itoa(len(r.Legs)) + " EPSG:4326",
 		LayerSpans:        "Line String " + strconv.Itoa(len(r.Fill)) + " EPSG:4326",
 		LayerConstruction: "Line String " + strconv.Itoa(works) + " EPSG:4326",
-		LayerStructures:   "Point " + strconv.Itoa(len(r.Handholes)+len(r.Estimate.Construction.TapJunctions)+len(r.Estimate.Construction.RunHandholes)+r.Estimate.AddedPullPoints) + " EPSG:4326",
+		LayerStructures:   "Point " + strconv.Itoa(len(r.Handholes)+len(r.Estimate.Construction.RunHandholes)+r.Estimate.AddedPullPoints) + " EPSG:4326",
 		LayerBuildings:    "Multi Polygon " + strconv.Itoa(len(r.Site.Campus.Buildings)) + " EPSG:4326",
 		LayerEntrances:    "Point " + strconv.Itoa(len(r.Site.Net.Entrances)) + " EPSG:4326",
 	}

@@ -39,11 +39,13 @@ const (
 
 // Purposes of an added structure.
 const (
-	PurposeJoin = "join" // where a pathway the plan opens joins the network
-	PurposeTurn = "turn" // where a route turns from one pathway into another
-	PurposePull = "pull" // an intermediate pull point the pulling plan adds (estimate.Estimate.AddedPullPoints)
-	PurposeRun  = "run"  // along new construction, at handhole_spacing_m or the bend budget (site.NewRuns)
-	PurposeTap  = "tap"  // where a counted lateral taps the side of a duct (site.Site.Tap)
+	// At a junction without a structure, one handhole whatever its reasons, under the first
+	// of them (routing.Handhole.Purpose): join, tap, turn.
+	PurposeJoin = routing.PurposeJoin // where a pathway the plan opens joins the network
+	PurposeTurn = routing.PurposeTurn // where a route turns from one pathway into another
+	PurposePull = "pull"              // an intermediate pull point the pulling plan adds (estimate.Estimate.AddedPullPoints)
+	PurposeRun  = "run"               // along new construction, at handhole_spacing_m or the bend budget (site.NewRuns)
+	PurposeTap  = routing.PurposeTap  // where a counted lateral taps the side of a duct (site.Site.Tap)
 )
 
 // gpkgLayers are plan.gpkg's layers, their columns and what each holds: the README's table
@@ -99,8 +101,8 @@ func gpkgLayers() []gpkgout.Layer {
 			Columns: []gpkgout.Column{
 				c("junction", tx, "junction id; none for a pull point on a span"),
 				c("span", tx, "span id of a pull point on a span"), c("at_m", re, "its distance from the span's from end, metres"),
-				c("purpose", tx, "join (an opened pathway joins there), turn (a route turns between pathways), run (along new construction, at the design's spacing or bend budget), tap (a counted lateral taps the side of a duct) or pull (the pulling plan needs a pull point)"),
-				c("links_text", tx, "links whose legs turn or are pulled there, joined by |"),
+				c("purpose", tx, "join (an opened pathway joins there), tap (a counted lateral taps the side of a duct), turn (a route turns between pathways), run (along new construction, at the design's spacing or bend budget) or pull (the pulling plan needs a pull point); one row per junction, under the first of join, tap and turn that it is for"),
+				c("links_text", tx, "links whose legs turn, tap or are pulled there, joined by |"),
 			}},
 		{Name: LayerBuildings, Geometry: gpkgout.MultiPolygon,
 			Description: "every building of the campus",
@@ -298,21 +300,18 @@ func planLayers(ctx context.Context, r *route.Result) ([]gpkgout.Layer, error) {
 		if !ok {
 			return nil, fmt.Errorf("handhole at %s: not a junction of the network", h.Junction)
 		}
-		purpose := PurposeTurn
-		if h.Joins {
-			purpose = PurposeJoin
+		// The links that use it: those that turn there, then those whose laterals tap there.
+		links := slices.Clone(turnLinks[h.Junction])
+		for _, en := range r.Estimate.Construction.Entrances {
+			if en.Tap == h.Junction {
+				for _, id := range entLinks[ent{en.Building, en.Entrance}] {
+					if !slices.Contains(links, id) {
+						links = append(links, id)
+					}
+				}
+			}
 		}
-		add(LayerStructures, j.Point, h.Junction, nil, nil, purpose, ListText(turnLinks[h.Junction]))
-	}
-	for _, en := range r.Estimate.Construction.Entrances {
-		if en.Tap == "" {
-			continue
-		}
-		j, ok := net.Junction(en.Tap)
-		if !ok {
-			return nil, fmt.Errorf("handhole where the lateral of %s taps a duct: %s is not a junction of the network", en.Entrance, en.Tap)
-		}
-		add(LayerStructures, j.Point, en.Tap, nil, nil, PurposeTap, ListText(entLinks[ent{en.Building, en.Entrance}]))
+		add(LayerStructures, j.Point, h.Junction, nil, nil, h.Purpose(), ListText(links))
 	}
 	for _, h := range r.Estimate.Construction.RunHandholes {
 		sp, ok := net.Span(h.Span)

@@ -397,7 +397,8 @@ type Summary struct {
 	DiverseShort int     `json:"diverse_missing"` // links that asked for a diverse route and did not get one
 	// CrossingLegs counts the feasible legs whose route passes through a building (in at one
 	// entrance, out at another); TurnHandholes the junctions, each once, where a feasible
-	// leg turns between pathways at a handhole the plan adds.
+	// leg turns between pathways at a handhole the plan adds for that alone (one also for new
+	// pathway joining or a lateral tapping is counted under those: routing.Handhole.Purpose).
 	CrossingLegs  int `json:"crossing_legs"`
 	TurnHandholes int `json:"turn_handholes"`
 	// RunHandholes counts the handholes placed along new construction (design

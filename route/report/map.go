@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"html/template"
 	"math"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -308,9 +309,25 @@ func buildMap(ctx context.Context, r *route.Result, opt Options, med map[string]
 		m.Structures = append(m.Structures, mark{X: num(q.X), Y: num(q.Y), Shape: structureShape(s.Type), Class: "st",
 			Title: s.ID + ": " + s.Type})
 	}
-	joins := map[string]bool{}
+	// One mark per handhole the plan adds at a junction, whatever it is for (routing.Handhole).
+	added := map[string]routing.Handhole{}
 	for _, h := range r.Handholes {
-		joins[h.Junction] = joins[h.Junction] || h.Joins
+		added[h.Junction] = h
+	}
+	// why says what else, besides routes turning, a handhole at junction id is for.
+	why := func(id string) []string {
+		var out []string
+		if added[id].Joins {
+			out = append(out, "new pathway joins the network there")
+		}
+		if r.Estimate != nil {
+			for _, en := range r.Estimate.Construction.Entrances {
+				if en.Tap == id {
+					out = append(out, "the lateral of "+en.Entrance+" taps a duct")
+				}
+			}
+		}
+		return out
 	}
 	for _, id := range ps.turnIDs {
 		j, ok := net.Junction(id)
@@ -319,33 +336,34 @@ func buildMap(ctx context.Context, r *route.Result, opt Options, med map[string]
 		}
 		q := p.at(j.Point[0], j.Point[1])
 		title := id + ": handhole to add, where a route turns between pathways (" + strings.Join(ps.turns[id], ", ") + ")"
-		if joins[id] {
-			title += "; new pathway joins the network there"
+		if w := why(id); len(w) > 0 {
+			title += "; " + strings.Join(w, "; ")
 		}
 		m.Turns = append(m.Turns, mark{X: num(q.X), Y: num(q.Y), Shape: "square", Class: "st turn", Title: title})
 	}
+	// Then those no route turns at: where new pathway joins, then where laterals tap (in the
+	// order of the entrances used), each junction once.
+	var rest []string
 	for _, h := range r.Handholes {
-		if !h.Joins || ps.turns[h.Junction] != nil {
-			continue
+		if h.Joins {
+			rest = append(rest, h.Junction)
 		}
-		j, ok := net.Junction(h.Junction)
-		if !ok {
+	}
+	if r.Estimate != nil {
+		for _, en := range r.Estimate.Construction.Entrances {
+			if en.Tap != "" && !slices.Contains(rest, en.Tap) {
+				rest = append(rest, en.Tap)
+			}
+		}
+	}
+	for _, id := range rest {
+		j, ok := net.Junction(id)
+		if !ok || ps.turns[id] != nil {
 			continue
 		}
 		q := p.at(j.Point[0], j.Point[1])
 		m.Turns = append(m.Turns, mark{X: num(q.X), Y: num(q.Y), Shape: "square", Class: "st turn",
-			Title: h.Junction + ": handhole to add, where new pathway joins the network there"})
-	}
-	if r.Estimate != nil {
-		for _, en := range r.Estimate.Construction.Entrances {
-			j, ok := net.Junction(en.Tap)
-			if en.Tap == "" || !ok {
-				continue
-			}
-			q := p.at(j.Point[0], j.Point[1])
-			m.Turns = append(m.Turns, mark{X: num(q.X), Y: num(q.Y), Shape: "square", Class: "st turn",
-				Title: en.Tap + ": handhole to add, where the lateral of " + en.Entrance + " taps a duct"})
-		}
+			Title: id + ": handhole to add, where " + strings.Join(why(id), "; ")})
 	}
 	for _, e := range net.Entrances {
 		j, ok := net.Junction(e.Junction)

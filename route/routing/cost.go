@@ -234,7 +234,10 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 		// demand's (demand).
 		loops := (items.LoopM(s, d, sp.From) + items.LoopM(s, d, sp.To)) / 2
 		pull, entered := crewHalves(s, sp.From, sp.To)
-		hh := float64(runHH[sp.ID]) + items.JoinEnds(s, sp)
+		// Handholes along its run, and where it joins the network (half of one where it is a
+		// run of its own at a junction split for turns: the turn edge carries the other half,
+		// layout.turnShare).
+		hh := float64(runHH[sp.ID]) + items.JoinEnds(s, sp) - 0.5*float64(lay.joinEnds[i])
 		e := optimize.Edge{ID: sp.ID, From: int(u), To: int(v), LengthM: sp.LengthM, CableM: items.Wasted(d, sp.LengthM+loops),
 			PerCableCents: m.cents(items.AlongSpan(d, sp.Type, sp.LengthM)...) + m.cents(items.StructureLoops(loops)...) +
 				m.cents(items.AtJunctions(m.prices, pull+hh, entered+hh)...) + m.bidPer(media.BidBases{Structures: 1}, entered),
@@ -286,24 +289,31 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 			pull, entered := crewHalves(s, x.junction)
 			e.PerCableCents += m.cents(items.AtJunctions(m.prices, pull, entered)...) + m.bidPer(media.BidBases{Structures: 1}, entered)
 		case edgeTurn:
-			// The handhole added where the route turns: a pull point the crew enters.
-			e.ID, e.PerCableCents = "turn at "+x.junction, m.cents(items.AtJunctions(m.prices, 1, 1)...)
+			// The handhole added where the route turns: a pull point the crew enters (its
+			// share, when a joining span's run is at one end: layout.turnShare).
+			share := float64(lay.turnShare(x.from, x.to)) / 2
+			e.ID, e.PerCableCents = "turn at "+x.junction, m.cents(items.AtJunctions(m.prices, share, share)...)
 		}
 		p.Edges = append(p.Edges, e)
 	}
-	if len(lay.charges) > 0 {
+	prepaid := prepaidTaps(s, lay, links)
+	if len(lay.charges) > 0 || len(prepaid) > 0 {
 		if err := m.prices.Check(items.KeysOf([]media.Quantity{items.JoinHandholes(1)})); err != nil {
 			return nil, nil, nil, err
 		}
 		hh := m.cents(items.JoinHandholes(1))
 		for _, c := range lay.charges {
-			p.Charges = append(p.Charges, optimize.Charge{ID: "handhole at " + c.junction, Edges: c.edges, Cents: hh})
+			cents := hh
+			if prepaid[c.junction] {
+				cents = 0 // the tap of a building with one entrance pays it (SolveFrom)
+			}
+			p.Charges = append(p.Charges, optimize.Charge{ID: "handhole at " + c.junction, Edges: c.edges, Cents: cents})
 		}
 	}
 	// An entrance of a building with several is paid once when a route uses it (those of a
 	// building with one are paid whatever the routes: Routed.ConstantCents).
 	for _, en := range lay.entrances {
-		c, err := m.entranceCents(en.building, en.entry, s.TapOf(en.entry))
+		c, err := m.entranceCents(en.building, en.entry)
 		if err != nil {
 			return nil, nil, nil, err
 		}
@@ -312,7 +322,7 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 		}
 	}
 	for _, b := range slices.Sorted(maps.Keys(lay.endEntry)) {
-		if _, err := m.entranceCents(b, lay.endEntry[b], s.TapOf(lay.endEntry[b])); err != nil {
+		if _, err := m.entranceCents(b, lay.endEntry[b]); err != nil {
 			return nil, nil, nil, err // a counted lateral the book cannot price as new construction
 		}
 	}
@@ -323,6 +333,25 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 		infos[i] = info
 	}
 	return p, lay, infos, nil
+}
+
+// prepaidTaps lists the junctions where the counted lateral of a building with one entrance
+// (layout.endEntry) that ends some link taps a duct (site.Site.TapOf): the plan builds that
+// handhole whatever its routes, as it builds the lateral, so it is paid with the entrances of
+// such buildings (Routed.ConstantCents) and the junction's charge costs nothing more. The
+// optimizer takes the lateral as used whenever its building ends a link; when every leg to
+// the building is infeasible the bill has no tap there, and a route that turns or joins there
+// is priced by SolveFrom afterwards (README, "One cost model").
+func prepaidTaps(s *site.Site, lay *layout, links []site.Link) map[string]bool {
+	out := map[string]bool{}
+	for _, l := range links {
+		for _, b := range []string{l.To, l.From} {
+			if e, ok := lay.endEntry[b]; ok && s.TapOf(e) {
+				out[e.Junction] = true
+			}
+		}
+	}
+	return out
 }
 
 // demandInfo is what the pipeline keeps about a link's demand to cost and explain its legs.
@@ -520,11 +549,12 @@ func (m *Model) bidItems(bases media.BidBases) []media.Quantity {
 }
 
 // entranceCents is what using a building entrance costs whatever the cables in it: its entry
-// and its counted lateral built, with its tap handhole when tap (items.Entrance), with the bid items per metre of new buried
-// work along the lateral.
-func (m *Model) entranceCents(building string, e geo.Entry, tap bool) (int64, error) {
+// and its counted lateral built (items.Entrance), with the bid items per metre of new buried
+// work along the lateral. The handhole where the lateral taps a duct is its junction's
+// (layout's charges, prepaidTaps).
+func (m *Model) entranceCents(building string, e geo.Entry) (int64, error) {
 	lateralM := e.LateralM
-	work := items.Entrance(m.prices, m.design, lateralM, e.Built, tap)
+	work := items.Entrance(m.prices, m.design, lateralM, e.Built)
 	if err := m.prices.Check(items.KeysOf(work)); err != nil {
 		if lateralM > 0 {
 			return 0, fmt.Errorf("building %s, entrance %s: its counted lateral of %.1f m is built as new construction: %w", building, e.ID, lateralM, err)

@@ -32,16 +32,23 @@ import (
 //     the building's node by its own entrance edge, the edges of one entrance sharing a
 //     shared-risk group (so two legs of a diverse link do not use one entrance twice).
 //   - A junction where three or more spans of different pathways meet with no structure and no
-//     building is split into one node per run of duct through it (geo.Network.RunsAt: the pieces of one
-//     pathway, spans that carry on within straightOnDeg of a straight line, as one duct bank
-//     drawn as several pathways, and two pathways of the same ducts that meet at a bend of the
-//     duct, as a facilities GIS splits one where another joins it) joined by turn edges of no
-//     length: a route that turns there from one run into another takes a turn edge
-//     (geo.PassNeedsStructure).
-//   - A handhole at a junction without a structure — where the route turns (a turn edge), or
-//     where new pathway joins the network (an opened proposed span ends, site.JoinsNetwork) —
-//     is one charge (optimize.Charge) over those edges, paid once however many routes use it:
-//     the model's count of added handholes is the bill's.
+//     building is split into one node per run of duct through it (geo.Network.RunsAt: a span,
+//     or two matched as one duct carried on: pieces of one pathway, spans that carry on within
+//     straightOnDeg of a straight line, as one duct bank drawn as several pathways, and two
+//     pathways of the same ducts that meet at a bend of the duct, as a facilities GIS splits
+//     one where another joins it) joined by turn edges of no length: a route that turns there
+//     from one run into another takes a turn edge (geo.PassNeedsStructure). A run of one
+//     proposed span that joins the network there is marked (joinNode): the handhole its joining
+//     adds is the one a route turning into it passes, and the crew's work there is shared
+//     between the turn edge and the span (turnShare).
+//   - A handhole at a junction without a structure — where the route turns (a turn edge),
+//     where new pathway joins the network (an opened proposed span ends, site.JoinsNetwork),
+//     or where the counted lateral of an entrance used taps a duct (the entrance edges of a
+//     building with several entrances, site.Site.TapOf) — is one charge (optimize.Charge) over
+//     all those edges, paid once however many routes use it and for however many reasons: the
+//     model's count of added handholes is the bill's. The lateral of a building with one
+//     entrance is used whatever the routes, so its tap's handhole is paid as a constant and
+//     the junction's charge costs nothing (problem; Routed.ConstantCents).
 
 // edgeKind tells an edge of the optimizer's graph that no span draws.
 type edgeKind int
@@ -62,7 +69,8 @@ type extraEdge struct {
 }
 
 // junctionCharge is a handhole the plan may add at a junction without a structure: the edges
-// that need it (turn edges there, opened proposed spans that end there).
+// that need it (turn edges there, opened proposed spans that end there, entrance edges whose
+// counted lateral taps a duct there).
 type junctionCharge struct {
 	junction string
 	edges    []int
@@ -88,6 +96,12 @@ type layout struct {
 	end       map[string]int
 	endEntry  map[string]geo.Entry // a building ending at one entrance: that entrance
 	noTransit []bool
+	// joinNode marks, by node, a run of one proposed span at a junction split for turns where
+	// new pathway joins the network (site.JoinsNetwork): a route along that span passes the
+	// handhole its joining adds, turning there or not. joinEnds counts, by span index, the ends
+	// of each such span (turnShare).
+	joinNode  []bool
+	joinEnds  map[int]int
 	charges   []junctionCharge
 	entrances []entranceEdges // of buildings with several entrances, in building then entrance order
 	groups    int             // the shared-risk groups the entrance copies use, numbered after the spans'
@@ -232,6 +246,7 @@ func newLayout(s *site.Site) *layout {
 				l.setEnd(net, i, jn.ID, n)
 			}
 		case turnAt[j]:
+			joins := s.JoinsNetwork(jn.ID)
 			for _, run := range net.RunsAt(jn.ID, spansAt[j]) {
 				name, bearing := net.Spans[run[0]].PathwayID, bearingAt(net, run[0], jn.ID)
 				for _, i := range run[1:] {
@@ -241,6 +256,9 @@ func newLayout(s *site.Site) *layout {
 				copies[j] = append(copies[j], n)
 				for _, i := range run {
 					l.setEnd(net, i, jn.ID, n)
+				}
+				if joins && len(run) == 1 && net.Spans[run[0]].Status == geo.StatusProposed {
+					l.markJoin(n, run[0])
 				}
 			}
 		default:
@@ -305,7 +323,15 @@ func newLayout(s *site.Site) *layout {
 	}
 	l.groups = group - firstGroup
 	l.numberClasses(net)
-	// Turn edges and the handholes they and opened spans may need.
+	// The entrance edges whose counted lateral taps a duct, by junction: they need the
+	// junction's handhole.
+	tapEdges := map[string][]int{}
+	for _, en := range l.entrances {
+		if s.TapOf(en.entry) {
+			tapEdges[en.entry.Junction] = append(tapEdges[en.entry.Junction], en.edges...)
+		}
+	}
+	// Turn edges and the handholes they, opened spans and tapping laterals may need.
 	for j, jn := range net.Junctions {
 		var c junctionCharge
 		if turnAt[j] {
@@ -324,6 +350,7 @@ func newLayout(s *site.Site) *layout {
 				}
 			}
 		}
+		c.edges = append(c.edges, tapEdges[jn.ID]...)
 		if len(c.edges) > 0 {
 			c.junction = jn.ID
 			slices.Sort(c.edges)
@@ -331,6 +358,63 @@ func newLayout(s *site.Site) *layout {
 		}
 	}
 	return l
+}
+
+// markJoin records node n as a run of the one proposed span i that joins the network there.
+func (l *layout) markJoin(n, i int) {
+	for len(l.joinNode) <= n {
+		l.joinNode = append(l.joinNode, false)
+	}
+	l.joinNode[n] = true
+	if l.joinEnds == nil {
+		l.joinEnds = map[int]int{}
+	}
+	l.joinEnds[i]++
+}
+
+// isJoin reports whether node n is a run of one joining proposed span (markJoin).
+func (l *layout) isJoin(n int) bool { return n < len(l.joinNode) && l.joinNode[n] }
+
+// Crew shares at a junction split for turns where new pathway joins (joinNode). A route along
+// a joining span passes a pull point and enters a handhole where it joins (items.JoinEnds, on
+// the span, in the bill); a route that turns there from one run into another does so too
+// (Leg.Turns). One pass through the one handhole there is one set-up and one entry per cable,
+// so the optimizer's graph shares it out, in halves:
+//
+//	turn edge between two ordinary runs, or two joining ones:  1
+//	turn edge between an ordinary run and a joining one:        ½
+//	a joining span's end there:                                 ½ (in the bill, 1)
+//
+// A route from a street into the joining span pays ½ + ½, one from one street into another
+// over the joining span's node ½ + ½, one straight on along the street nothing. turnsListed
+// gives the turns the leg lists for a pass over turn edges, so that the bill (turns listed
+// and JoinEnds, in wholes) counts what the optimizer counted. (A route that reached a joining
+// span's node by an entrance edge, not along the span, and turned on would pay the optimizer
+// half a share less than the bill; the entrance has an edge to every run there, so no plan
+// takes that way.)
+
+// turnShare is the crew share, in halves, of the turn edge between nodes u and v.
+func (l *layout) turnShare(u, v int) int {
+	if l.isJoin(u) != l.isJoin(v) {
+		return 1
+	}
+	return 2
+}
+
+// turnsListed is how many turns a route lists (Leg.Turns) for a pass through one junction
+// over the turn edges between nodes path[0], …, path[m] (m ≥ 1): the halves of the edges, less
+// the half a joining span at either end carries itself, in wholes.
+func (l *layout) turnsListed(path []int) int {
+	halves := 0
+	for k := 1; k < len(path); k++ {
+		halves += l.turnShare(path[k-1], path[k])
+	}
+	for _, n := range []int{path[0], path[len(path)-1]} {
+		if l.isJoin(n) {
+			halves--
+		}
+	}
+	return halves / 2
 }
 
 // numberClasses lists the span classes of the network's spans (and of the laterals, when an

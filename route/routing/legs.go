@@ -54,7 +54,9 @@ type Leg struct {
 	// their entrances and out at another), which the campus allows (geo.Transit).
 	Crosses []string
 	// Turns lists, in travel order, the junctions where the route turns from one pathway into
-	// another at a handhole or pull box the plan adds (geo.PassNeedsStructure).
+	// another at a handhole or pull box the plan adds (geo.PassNeedsStructure); not where it
+	// turns into or out of new pathway that joins the network there, whose handhole that is
+	// (items.JoinEnds; layout.turnsListed).
 	Turns []string
 
 	// The medium decision, filled by the media rule engine.
@@ -151,6 +153,12 @@ func legsOf(s *site.Site, cm *Model, lay *layout, prob *optimize.Problem, rt *op
 	return legs
 }
 
+// isTurn reports whether edge e of the layout of a network of spans spans is a turn edge.
+func isTurn(lay *layout, spans, e int) bool {
+	x, ok := lay.isExtra(spans, e)
+	return ok && x.kind == edgeTurn
+}
+
 // fillLeg sets a leg's route and its medium from the rule engine on the route's own facts;
 // the estimate prices it (package estimate).
 func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, medium string, info demandInfo) {
@@ -179,13 +187,27 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, me
 	plenum := false
 	types := map[string]bool{}
 	seen := map[string]bool{}
+	var pass []int // the nodes of the turn edges the route is passing, in travel order
 	for k, h := range ol.Hops {
 		x, extra := lay.isExtra(len(s.Net.Spans), h.Edge)
-		switch {
-		case extra && x.kind == edgeTurn:
-			leg.Turns = append(leg.Turns, x.junction)
+		if extra && x.kind == edgeTurn {
+			from, to := x.from, x.to
+			if !h.Forward {
+				from, to = to, from
+			}
+			if len(pass) == 0 {
+				pass = append(pass, from)
+			}
+			pass = append(pass, to)
+			if k+1 == len(ol.Hops) || !isTurn(lay, len(s.Net.Spans), ol.Hops[k+1].Edge) {
+				for range lay.turnsListed(pass) {
+					leg.Turns = append(leg.Turns, x.junction)
+				}
+				pass = pass[:0]
+			}
 			continue
-		case extra:
+		}
+		if extra {
 			continue
 		}
 		sp := &s.Net.Spans[h.Edge]

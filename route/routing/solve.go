@@ -10,6 +10,7 @@ import (
 
 	"spanwright/geo"
 	"spanwright/route/internal/ctxio"
+	"spanwright/route/items"
 	"spanwright/route/optimize"
 	"spanwright/route/site"
 )
@@ -21,7 +22,8 @@ type Routed struct {
 	Opened []string      // proposed spans the plan builds, by span ID
 	Fill   []SegmentFill // duct fill of every span that carries cable, by span ID
 	// Handholes are the handholes or pull boxes the plan adds at junctions without a
-	// structure, by junction ID: where new pathway joins the network, or where a route turns
+	// structure, one per junction whatever its reasons, in the network's junction order: where
+	// new pathway joins the network, where a counted lateral taps a duct, where a route turns
 	// from one pathway into another.
 	Handholes []Handhole
 	// Runs are the runs of new construction the plan opens, with the handholes along them
@@ -37,7 +39,8 @@ type Routed struct {
 	// (the length objective).
 	LowerBoundCents int64
 	// ConstantCents is what the plan pays whatever its routes: the entrances of buildings with
-	// one (items.Entrance), used as soon as a leg ends there.
+	// one (items.Entrance), used as soon as a leg ends there, and the handholes where their
+	// counted laterals tap a duct, one per junction (prepaidTaps).
 	ConstantCents int64
 	// StartUnused lists, in link order, the links whose routes in SolveFrom's start did not
 	// fit this plan (another network, hub or medium, a span gone, beyond reach) and were
@@ -67,10 +70,34 @@ type EntranceUse struct {
 	Tap string
 }
 
-// Handhole is a handhole the plan adds at a junction without a structure.
+// Handhole is a handhole the plan adds at a junction without a structure, and why: one or
+// more of its reasons.
 type Handhole struct {
 	Junction string
-	Joins    bool // an opened proposed span ends there; else only routes turn there
+	Joins    bool // an opened proposed span ends there
+	Taps     bool // the counted lateral of an entrance used taps a duct there (site.Site.TapOf)
+	Turns    bool // a route turns there from one pathway into another
+}
+
+// Purposes of an added handhole, the values of Handhole.Purpose.
+const (
+	PurposeJoin = "join" // new pathway joins the network
+	PurposeTap  = "tap"  // a counted lateral taps the side of a duct
+	PurposeTurn = "turn" // a route turns from one pathway into another
+)
+
+// Purpose is the one reason a handhole is listed and billed under: the first of new pathway
+// joining, a lateral tapping, a route turning. It is the one place that decides it, so that
+// the bill's three lines (items.JoinHandholes, TapHandholes, TurnHandholes) and every list of
+// added structures count each junction once.
+func (h Handhole) Purpose() string {
+	switch {
+	case h.Joins:
+		return PurposeJoin
+	case h.Taps:
+		return PurposeTap
+	}
+	return PurposeTurn
 }
 
 // Solve routes links over the site with the model's prices and rules, and chooses each leg's
@@ -126,14 +153,7 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 	for _, e := range sol.Opened {
 		r.Opened = append(r.Opened, s.Net.Spans[e].ID)
 	}
-	for _, k := range sol.Charged {
-		if k >= len(lay.charges) {
-			continue // an entrance's charge (problem): Entrances, below
-		}
-		c := lay.charges[k]
-		joins := slices.ContainsFunc(sol.Opened, func(e int) bool { return slices.Contains(c.edges, e) })
-		r.Handholes = append(r.Handholes, Handhole{Junction: c.junction, Joins: joins})
-	}
+
 	for _, run := range runs {
 		if slices.Contains(r.Opened, run.Steps[0].SpanID) {
 			r.Runs = append(r.Runs, run)
@@ -158,17 +178,89 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 		r.Legs = append(r.Legs, l...)
 	}
 	r.Entrances = entrancesUsed(s, lay, r.Legs)
+	var unpaid int64 // handholes of prepaid charges that no used tap paid (prepaidTaps)
+	r.Handholes, unpaid = handholesOf(s, lay, prob, sol, r.Entrances)
+	hh := m.cents(items.JoinHandholes(1))
 	for _, e := range r.Entrances {
 		if e.Single {
-			c, _ := m.entranceCents(e.Building, geo.Entry{ID: e.Entrance, Access: geo.Access{LateralM: e.LateralM}, Built: e.Built}, e.Tap != "") // checked by problem
+			c, _ := m.entranceCents(e.Building, geo.Entry{ID: e.Entrance, Access: geo.Access{LateralM: e.LateralM}, Built: e.Built}) // checked by problem
 			r.ConstantCents += c
 		}
 	}
-	r.ObjectiveCents += r.ConstantCents
+	r.ConstantCents += hh * int64(len(singleTaps(r.Entrances)))
+	r.ObjectiveCents += r.ConstantCents + hh*unpaid
 	if r.LowerBoundCents >= 0 {
 		r.LowerBoundCents += r.ConstantCents // paid by every plan alike
 	}
 	return r, nil
+}
+
+// singleTaps lists, each once, the junctions where the counted laterals of the used entrances
+// of buildings with one tap a duct.
+func singleTaps(used []EntranceUse) map[string]bool {
+	out := map[string]bool{}
+	for _, e := range used {
+		if e.Single && e.Tap != "" {
+			out[e.Tap] = true
+		}
+	}
+	return out
+}
+
+// handholesOf lists the handholes the plan adds at junctions without a structure, one per
+// junction in the network's junction order, with every reason it has: the junction charges
+// the routes pay (an opened span ends there, a turn edge or a tapping entrance's edge carries
+// a route) and the taps of the entrances used. unpaid counts the charges a route used at cost
+// 0 because a tap of a building with one entrance was to pay for them (prepaidTaps) when no
+// used entrance taps there.
+func handholesOf(s *site.Site, lay *layout, prob *optimize.Problem, sol *optimize.Solution, used []EntranceUse) (hs []Handhole, unpaid int64) {
+	carried := map[int]bool{}
+	for _, rt := range sol.Routes {
+		for _, leg := range []optimize.Leg{rt.Primary, rt.Secondary} {
+			for _, h := range leg.Hops {
+				carried[h.Edge] = true
+			}
+		}
+	}
+	byJunction := map[string]*Handhole{}
+	get := func(j string) *Handhole {
+		if byJunction[j] == nil {
+			byJunction[j] = &Handhole{Junction: j}
+		}
+		return byJunction[j]
+	}
+	single := singleTaps(used)
+	for _, k := range sol.Charged {
+		if k >= len(lay.charges) {
+			continue // an entrance's charge (problem): Entrances
+		}
+		c := lay.charges[k]
+		h := get(c.junction)
+		for _, e := range c.edges {
+			switch x, extra := lay.isExtra(len(s.Net.Spans), e); {
+			case !extra:
+				h.Joins = h.Joins || slices.Contains(sol.Opened, e)
+			case x.kind == edgeTurn:
+				h.Turns = h.Turns || carried[e]
+			case x.kind == edgeEntrance:
+				h.Taps = h.Taps || carried[e]
+			}
+		}
+		if prob.Charges[k].Cents == 0 && !single[c.junction] {
+			unpaid++
+		}
+	}
+	for _, e := range used {
+		if e.Tap != "" {
+			get(e.Tap).Taps = true
+		}
+	}
+	for _, j := range s.Net.Junctions {
+		if h := byJunction[j.ID]; h != nil {
+			hs = append(hs, *h)
+		}
+	}
+	return hs, unpaid
 }
 
 // entrancesUsed lists the entrances feasible legs use, by building then entrance ID.
