@@ -1,6 +1,8 @@
 package route_test
 
 import (
+	"fmt"
+	"maps"
 	"os"
 	"path/filepath"
 	"slices"
@@ -64,5 +66,54 @@ func TestEntranceAlreadyThere(t *testing.T) {
 	}
 	if _, ok := testplan.BOMLine(r.Estimate.BOM, "building entrance already there"); ok {
 		t.Error("a book without entrance_firestop_each bills a firestop line")
+	}
+}
+
+// TestLegCostUnusedEntrance: a leg's cost does not depend on whether its building has an
+// entrance no leg uses. Building C is reached by the existing duct R, off the duct D from the
+// hub A; with the proposed duct P drawn to another wall of C as well, C has two entrances
+// (and its entrance is the optimizer's charge rather than a constant), of which P's stays
+// unused (R costs less than opening P). The legs carry the entrance they use in both cases,
+// so their costs and the model cost are the same. The project's own rule (one cost model,
+// README "Report"): no outside source.
+func TestLegCostUnusedEntrance(t *testing.T) {
+	t.Parallel()
+	line := func(id, extra string, pts ...float64) string {
+		var s []string
+		for i := 0; i+1 < len(pts); i += 2 {
+			s = append(s, fmt.Sprintf("[%.7f,%.7f]", testsite.X(pts[i]), testsite.Y(pts[i+1])))
+		}
+		return fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":%q,"type":"duct","duct_mm":100%s},"geometry":{"type":"LineString","coordinates":[%s]}}`,
+			id, extra, strings.Join(s, ","))
+	}
+	features := []string{
+		testsite.Box("A", "mc", 10, 25), testsite.Box("B", "", 210, 125), testsite.Box("C", "", 300, 25),
+		line("D", `,"spare_ducts":2`, 10, 15, 10, 0, 110, 0, 210, 0, 210, 30, 210, 115),
+		line("R", `,"spare_ducts":2`, 210, 30, 290, 30),
+	}
+	withP := append(slices.Clone(features), line("P", `,"status":"proposed","surface":"asphalt"`, 210, 0, 300, 0, 300, 15))
+	costs := func(fs []string) (map[string]int64, int64, int) {
+		r, err := testplan.PullSolveJSON(t, `{"type":"FeatureCollection","features":[`+strings.Join(fs, ",")+`]}`, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		out := map[string]int64{}
+		var model int64
+		for _, l := range r.Legs {
+			if !l.Feasible || l.EntranceTo != "C:1" && l.Link.To == "C" {
+				t.Fatalf("leg %s/%s: feasible %v, entrance %s; want feasible through R's entrance", l.Link.ID, l.Name, l.Feasible, l.EntranceTo)
+			}
+			out[l.Link.ID+"/"+l.Name] = l.Cost.TotalCents()
+			model += l.Cost.TotalCents()
+		}
+		return out, model, len(r.Site.Net.EntrancesOf("C"))
+	}
+	a, modelA, nA := costs(features)
+	b, modelB, nB := costs(withP)
+	if nA != 1 || nB != 2 {
+		t.Fatalf("C has %d entrances without P, %d with; want 1 and 2", nA, nB)
+	}
+	if !maps.Equal(a, b) || modelA != modelB {
+		t.Errorf("leg costs with one entrance %v (model %d), with an unused second %v (model %d); want the same", a, modelA, b, modelB)
 	}
 }

@@ -181,18 +181,58 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 	var unpaid int64 // handholes of prepaid charges that no used tap paid (prepaidTaps)
 	r.Handholes, unpaid = handholesOf(s, lay, prob, sol, r.Entrances)
 	hh := m.cents(items.JoinHandholes(1))
+	// What a building with one entrance pays whatever the routes is carried by the legs that
+	// use the entrance, in equal shares, as the legs through an entrance of a building with
+	// several carry its charge: a leg's cost does not depend on whether its building has an
+	// entrance it does not use.
+	taps := singleTaps(r.Entrances)
 	for _, e := range r.Entrances {
 		if e.Single {
 			c, _ := m.entranceCents(e.Building, geo.Entry{ID: e.Entrance, Access: geo.Access{LateralM: e.LateralM}, Built: e.Built}) // checked by problem
 			r.ConstantCents += c
+			shareAmong(r.Legs, c, func(l *Leg) bool { return usesEntrance(l, e.Building, e.Entrance) })
 		}
 	}
-	r.ConstantCents += hh * int64(len(singleTaps(r.Entrances)))
+	for _, j := range slices.Sorted(maps.Keys(taps)) {
+		r.ConstantCents += hh
+		shareAmong(r.Legs, hh, func(l *Leg) bool {
+			return slices.ContainsFunc(r.Entrances, func(e EntranceUse) bool {
+				return e.Single && e.Tap == j && usesEntrance(l, e.Building, e.Entrance)
+			})
+		})
+	}
 	r.ObjectiveCents += r.ConstantCents + hh*unpaid
 	if r.LowerBoundCents >= 0 {
 		r.LowerBoundCents += r.ConstantCents // paid by every plan alike
 	}
 	return r, nil
+}
+
+// usesEntrance reports whether feasible leg l enters building b by its entrance id.
+func usesEntrance(l *Leg, b, id string) bool {
+	return l.Feasible && (l.Link.To == b && l.EntranceTo == id || l.Link.From == b && l.EntranceFrom == id)
+}
+
+// shareAmong adds cents to the construction of the legs that take it, in equal parts, the
+// remainder cents to the first (as the optimizer splits a charge among its users).
+func shareAmong(legs []Leg, cents int64, takes func(l *Leg) bool) {
+	var users []*Leg
+	for i := range legs {
+		if takes(&legs[i]) {
+			users = append(users, &legs[i])
+		}
+	}
+	if len(users) == 0 {
+		return
+	}
+	part := cents / int64(len(users))
+	for i, l := range users {
+		c := part
+		if i == 0 {
+			c += cents - part*int64(len(users))
+		}
+		l.Cost.ConstructionCents += c
+	}
 }
 
 // singleTaps lists, each once, the junctions where the counted laterals of the used entrances
