@@ -387,6 +387,7 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link) (optimize.Demand,
 			l.To, l.From, lay.name[srcN]))
 		return dm, info
 	}
+	outside := lateral > 0 || slices.ContainsFunc(lay.classes, func(c spanClass) bool { return c.outdoor })
 	for _, med := range m.eng.Media() {
 		mm := m.eng.Catalog().Medium(med)
 		if lateral > 0 && !m.allowed(s, med, rate, future, strands, lateralClass) {
@@ -399,8 +400,11 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link) (optimize.Demand,
 				exclude |= lay.classBit[c]
 			}
 		}
-		maxCh := s.Reaches.MaxChannelM(m.eng, med, rate, future, facts) // shared by a sweep's price books
-		maxRoute := maxCh - riser - slack - lateral
+		maxCh := m.reachM(s, med, rate, future, facts, outside)
+		// The route may take what the channel leaves of the reach: the channel also holds the
+		// risers, the service coils and entrance loops, the halves of the slack loops at the
+		// end structures and the laterals (takeoff), whatever the route.
+		maxRoute := maxCh - riser - coils - endLoops - lateral
 		perM := m.cableFor(med, rate, facts, coils+2*endLoops)
 		fixed := m.eng.FixedCentsFor(med, rate, facts)
 		switch {
@@ -408,7 +412,7 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link) (optimize.Demand,
 			info.excluded = append(info.excluded, fmt.Sprintf("%s: the price book prices no cable, termination or transceiver it needs at %s", med, media.FormatRate(rate)))
 			continue
 		case maxRoute <= 0:
-			info.excluded = append(info.excluded, fmt.Sprintf("%s: reaches at most %.1f m of channel; risers, slack and laterals alone take %.1f m", med, maxCh, riser+slack+lateral))
+			info.excluded = append(info.excluded, fmt.Sprintf("%s: reaches at most %.1f m of channel; risers, slack loops and laterals alone take %.1f m", med, maxCh, maxCh-maxRoute))
 			continue
 		}
 		// What the leg takes whatever its path: the cable of its risers, laterals, service coils,
@@ -434,6 +438,56 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link) (optimize.Demand,
 		info.options = append(info.options, med)
 	}
 	return dm, info
+}
+
+// reachM is the longest channel, in metres, over which medium carries a link of facts with
+// the splices the plan puts in a channel that long: the mid-span splices between reels of
+// design.reel_m (reels) and, outside, the repair splices of the margin policy. Each is loss in
+// the budget (ANSI/TIA-568.3-D: 0.3 dB a fusion splice), so a long single-mode channel
+// reaches less than media.Engine.MaxChannelM says for an inside link with no splices (issue
+// 16: 17,760 m of route quoted with neither; 12,000 m with the three reel splices and the
+// repair splices of its outside plant, where the media choice then agrees). It is the one
+// reach the optimizer keeps a route within and its reasons quote (less what the channel
+// holds besides the route, demand).
+//
+// Channels with n reel splices are those longer than joinsUpToM(n−1) up to joinsUpToM(n);
+// the engine's answer with n splices more bounds them (its longest channel falls as splices
+// are added), so reachWithJoinsM stops at the first n whose answer ends within its own band.
+//
+// With outside, when the campus has pathways outside the buildings (or the link a lateral),
+// the reach is also measured on a route that leaves them: its outside plant then counts the
+// repair splices the margin policy allows per km of single-mode outside plant, as the leg's
+// own facts will (fillLeg), and the shorter of the two reaches is kept. A medium the rules
+// keep out of outside plant altogether keeps its reach inside: which spans it may use is the
+// span classes' matter (Model.allowed), not the reach's.
+func (m *Model) reachM(s *site.Site, medium string, rate, future float64, facts media.Link, outside bool) float64 {
+	r := m.reachWithJoinsM(s, medium, rate, future, facts)
+	if outside {
+		facts.Outdoor = true
+		out := m.reachWithJoinsM(s, medium, rate, future, facts)
+		if out > 0 {
+			r = min(r, out)
+		}
+	}
+	return r
+}
+
+// reachWithJoinsM is reachM on the facts as they are.
+func (m *Model) reachWithJoinsM(s *site.Site, medium string, rate, future float64, facts media.Link) float64 {
+	best, below := 0.0, 0.0
+	base := facts.Splices
+	for n := 0; ; n++ {
+		facts.Splices = base + n
+		r := s.Reaches.MaxChannelM(m.eng, medium, rate, future, facts) // shared by a sweep's price books
+		upTo := joinsUpToM(m.design, n)
+		if r > below {
+			best = min(r, upTo)
+		}
+		if r <= upTo {
+			return best
+		}
+		below = upTo
+	}
 }
 
 // cableKey is what cableFor's answer depends on.
