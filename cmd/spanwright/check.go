@@ -79,6 +79,7 @@ func runCheck(ctx context.Context, args []string, db string, maxBytes int64, opt
 		_, err := st.Hub(p) // the plan's problem, at the hub's line
 		return err
 	}
+	var diverse []string // the plan's diverse links that can have no second route
 	if p != nil {
 		// Everything plan rejects before routing, check rejects too.
 		eng, err := plan.Engine(p)
@@ -86,6 +87,9 @@ func runCheck(ctx context.Context, args []string, db string, maxBytes int64, opt
 			return err
 		}
 		if err := route.Check(st, p, eng); err != nil {
+			return err
+		}
+		if diverse, err = route.NoDiverse(st, p, eng); err != nil {
 			return err
 		}
 	}
@@ -99,6 +103,10 @@ func runCheck(ctx context.Context, args []string, db string, maxBytes int64, opt
 	if len(rep.ThroughOnly) > 0 {
 		cannot = append(cannot, fmt.Sprintf("%s the hub %s only through another building routes may not cross: %s",
 			output.Counted(len(rep.ThroughOnly), "building reaches", "buildings reach"), escape.Terminal(rep.Hub), escape.TerminalList(rep.ThroughOnly)))
+	}
+	if len(diverse) > 0 {
+		cannot = append(cannot, fmt.Sprintf("%s no second route, as plan would find: %s",
+			output.Counted(len(diverse), "diverse link has", "diverse links have"), escape.Terminal(strings.Join(diverse, "; "))))
 	}
 	if len(cannot) > 0 {
 		return fmt.Errorf("%w: %s", route.ErrInfeasible, strings.Join(cannot, "; "))
