@@ -226,6 +226,7 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 		}
 	}
 	// Duct fill: the optimizer's incremental NFPA 70 Chapter 9 Table 1 packing (nil Fits).
+	builtAt := s.BuiltEntriesAt()
 	for i := range net.Spans {
 		sp := &net.Spans[i]
 		u, v := lay.spanEnds[i][0], lay.spanEnds[i][1]
@@ -259,6 +260,9 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 			if d.AllowNewTrench && m.prices.Check(items.KeysOf(append(work, items.AddedDuct(1)))) == nil && m.perM(items.AddedDuct(1)) > 0 {
 				e.AddDuctPerMCents = m.perM(items.AddedDuct(1))
 				e.AddTrenchPerMCents = m.perM(append(work, m.bidItems(media.BidBases{NewBuriedM: 1})...)...)
+				// The ducts enter a building through a wall the full ones already enter: a
+				// penetration of their own, paid with the trench.
+				e.AddTrenchCents = m.cents(items.AddedDuctEntrances(m.prices, items.AddedDuctWalls(builtAt, sp))...)
 			}
 		}
 		p.Edges[i] = e
