@@ -454,10 +454,6 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link) (optimize.Demand,
 // reach the optimizer keeps a route within and its reasons quote (less what the channel
 // holds besides the route, demand).
 //
-// Channels with n reel splices are those longer than joinsUpToM(n−1) up to joinsUpToM(n);
-// the engine's answer with n splices more bounds them (its longest channel falls as splices
-// are added), so reachWithJoinsM stops at the first n whose answer ends within its own band.
-//
 // With outside, when the campus has pathways outside the buildings (or the link a lateral),
 // the reach is also measured on a route that leaves them: its outside plant then counts the
 // repair splices the margin policy allows per km of single-mode outside plant, as the leg's
@@ -476,22 +472,33 @@ func (m *Model) reachM(s *site.Site, medium string, rate, future float64, facts 
 	return r
 }
 
-// reachWithJoinsM is reachM on the facts as they are.
+// reachWithJoinsM is reachM on the facts as they are. R(n), the engine's longest channel
+// with n splices more, falls as n grows while joinsUpToM(n) grows, so the reach is in the band
+// of the first n with R(n) ≤ joinsUpToM(n): R(n) there, or the top of the band below when
+// R(n) falls short of it (that band's channels all close). That n is at most the joins of a
+// channel R(0) long, and is found counting down from there: a few of the engine's answers,
+// not one per band.
 func (m *Model) reachWithJoinsM(s *site.Site, medium string, rate, future float64, facts media.Link) float64 {
-	best, below := 0.0, 0.0
 	base := facts.Splices
-	for n := 0; ; n++ {
+	at := func(n int) float64 {
 		facts.Splices = base + n
-		r := s.Reaches.MaxChannelM(m.eng, medium, rate, future, facts) // shared by a sweep's price books
-		upTo := joinsUpToM(m.design, n)
-		if r > below {
-			best = min(r, upTo)
-		}
-		if r <= upTo {
-			return best
-		}
-		below = upTo
+		return s.Reaches.MaxChannelM(m.eng, medium, rate, future, facts) // shared by a sweep's price books
 	}
+	r0 := at(0)
+	if r0 <= joinsUpToM(m.design, 0) {
+		return r0 // one reel (or no reel limit) carries it
+	}
+	_, reelsAt := reels(m.design, r0)
+	n := reelsAt - 1 // R(n) ≤ R(0) ≤ joinsUpToM(n)
+	rn := at(n)
+	for n > 1 {
+		r := at(n - 1)
+		if r > joinsUpToM(m.design, n-1) {
+			break
+		}
+		n, rn = n-1, r
+	}
+	return max(rn, joinsUpToM(m.design, n-1))
 }
 
 // cableKey is what cableFor's answer depends on.
