@@ -330,8 +330,7 @@ func TestSiteFacts(t *testing.T) {
 // TestThroughNamesOnlyInTheWay: the buildings a reason says a route must cross are those in
 // its way, not every building the search meets: D, at the end of a spur off C's duct, is met
 // by the search from C and is in nobody's way; G reaches A through E and then B, both named.
-// A route crosses a building only along a pathway inside it (ANSI/TIA-569 keeps a backbone
-// pathway inside a building to that building's own spaces); which buildings are in the way
+// A route crosses a building only along a pathway inside it; which buildings are in the way
 // is common practice, no published source.
 func TestThroughNamesOnlyInTheWay(t *testing.T) {
 	t.Parallel()
