@@ -300,8 +300,12 @@ func TestCheckDiverseAsPlan(t *testing.T) {
 			if leg == "" {
 				t.Fatalf("%s: plan names no diverse leg without a route:\n%s", tc.plan, planOut)
 			}
-			if want := "building " + tc.building + ", " + leg; !strings.Contains(checkOut+checkMsg, want) {
-				t.Errorf("%s: check says\n%s\nwant %q", tc.plan, checkMsg, want)
+			want := "building " + tc.building + ", " + leg
+			if !strings.Contains(checkMsg, want) {
+				t.Errorf("%s: check's error says\n%s\nwant %q", tc.plan, checkMsg, want)
+			}
+			if !strings.Contains(checkOut, "diverse     1 diverse link has no second route, however planned:\n  "+want+"\n") {
+				t.Errorf("%s: check's report lacks the link:\n%s", tc.plan, checkOut)
 			}
 		})
 	}

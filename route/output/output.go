@@ -877,6 +877,12 @@ func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
 		fmt.Fprintf(w, "through     %s the hub only through another building, and the plan serves it from a cross-connect it reaches: %s\n",
 			Counted(len(r.Served), "building reaches", "buildings reach"), escape.TerminalList(r.Served))
 	}
+	if len(r.NoDiverse) > 0 {
+		fmt.Fprintf(w, "diverse     %s no second route, however planned:\n", Counted(len(r.NoDiverse), "diverse link has", "diverse links have"))
+		for _, why := range r.NoDiverse {
+			fmt.Fprintf(w, "  %s\n", t(InUnits(opt, why)))
+		}
+	}
 	// The entrances, one line per building that has more than one or a declared one.
 	var multi []string
 	for i := 0; i < len(r.Entrances); {
