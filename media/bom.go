@@ -68,7 +68,11 @@ type BOMLine struct {
 	RatePerHour float64
 	// Quantity is what is billed, in Unit: metres rounded to 0.1 m, counts whole, hours
 	// rounded up to 0.01 h.
-	Quantity      float64
+	Quantity float64
+	// Summed is the quantities' amounts added up, in their unit (for labour WorkUnit), before
+	// Quantity rounds them: an output in other units converts this, then rounds, as it does
+	// every other length, so that one figure is shown alike everywhere.
+	Summed        float64
 	UnitCents     int64 // the book's price per Unit
 	ExtendedCents int64 // Quantity × UnitCents, rounded half up to a whole cent
 	// A bid item priced as a percentage only: one unit whose price is PercentBP of the sum
@@ -194,7 +198,7 @@ func (p *PriceBook) Bill(qs []Quantity) (*BOM, error) {
 	for _, k := range keys {
 		amount := sums[k]
 		unitCents, _ := p.Price(k.price)
-		line := BOMLine{Category: k.category, Item: k.item, Unit: k.unit, Price: k.price, UnitCents: unitCents}
+		line := BOMLine{Category: k.category, Item: k.item, Unit: k.unit, Price: k.price, UnitCents: unitCents, Summed: amount}
 		var hundredths int64
 		switch {
 		case k.rate.Item != "":

@@ -423,7 +423,7 @@ func objectiveOf(r *route.Result, prob *optimize.Problem, pb *media.PriceBook, l
 		e := &prob.Edges[index[f.Span]]
 		c += int64(f.AddedDucts) * int64(math.Round(e.LengthM*float64(e.AddDuctPerMCents)))
 		if f.AddedDucts > 0 {
-			c += int64(math.Round(e.LengthM * float64(e.AddTrenchPerMCents)))
+			c += int64(math.Round(e.LengthM*float64(e.AddTrenchPerMCents))) + e.AddTrenchCents
 		}
 	}
 	return c

@@ -9,6 +9,7 @@ import (
 	"strings"
 	"testing"
 
+	"spanwright/media"
 	"spanwright/route/internal/testplan"
 	"spanwright/route/internal/testsite"
 	"spanwright/route/plan"
@@ -115,5 +116,54 @@ func TestLegCostUnusedEntrance(t *testing.T) {
 	}
 	if !maps.Equal(a, b) || modelA != modelB {
 		t.Errorf("leg costs with one entrance %v (model %d), with an unused second %v (model %d); want the same", a, modelA, b, modelB)
+	}
+}
+
+// TestAddedDuctEntersItsOwnWall: on the pull campus with every duct full, the plan lays a duct
+// beside D (one trench, NFPA 70 Chapter 9 Table 1 leaves no room) into A's and B's walls,
+// where D's own sleeves are: those entrances are there already, but the new duct cannot use a
+// full duct's sleeve, so each wall takes a new penetration, sleeve and firestop
+// (building_entrance_each) besides the firestop of the entrance (common practice, no
+// published source; firestopping the penetration is NFPA 70 300.21, from memory). The
+// optimizer prices it with the added duct's trench (optimize.Edge.AddTrenchCents) and the
+// bill bills the same, from the same spans.
+func TestAddedDuctEntersItsOwnWall(t *testing.T) {
+	t.Parallel()
+	r, err := testplan.PullSolveJSON(t, testsite.PullCampus(100, 0), nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	prob, links := problemOf(t, r)
+	index := map[string]int{}
+	for i := range r.Site.Net.Spans {
+		index[r.Site.Net.Spans[i].ID] = i
+	}
+	builtAt := r.Site.BuiltEntriesAt()
+	var modelCents int64
+	walls := 0
+	for _, f := range r.Fill {
+		if f.AddedDucts == 0 {
+			continue
+		}
+		sp := &r.Site.Net.Spans[index[f.Span]]
+		walls += builtAt[sp.From] + builtAt[sp.To]
+		modelCents += prob.Edges[index[f.Span]].AddTrenchCents
+	}
+	if walls != 2 {
+		t.Fatalf("walls entered by added ducts where a full duct enters: %d, want 2 (A's and B's); fill %+v", walls, r.Fill)
+	}
+	line, ok := testplan.BOMLine(r.Estimate.BOM, "building entrance for a duct added beside a full one")
+	if !ok || line.Quantity != 2 || line.Price.Item != media.PriceEntrance || len(line.From) != 2 {
+		t.Fatalf("added ducts' penetrations: %+v, want 2 priced as new entrances, from their two spans", line)
+	}
+	if line.ExtendedCents != modelCents {
+		t.Errorf("bill %s for the added ducts' penetrations, the optimizer %s", media.FormatCents(line.ExtendedCents), media.FormatCents(modelCents))
+	}
+	if got := objectiveOf(r, prob, r.Engine.PriceBook(), links); got != r.ObjectiveCents {
+		t.Errorf("objective of the plan's routes %d cents, the optimizer's %d", got, r.ObjectiveCents)
+	}
+	// The entrances themselves are still there already: firestopped, not new.
+	if firestop, ok := testplan.BOMLine(r.Estimate.BOM, "building entrance already there"); !ok || firestop.Quantity != 2 {
+		t.Errorf("firestop at entrances already there: %+v, want 2", firestop)
 	}
 }

@@ -196,6 +196,31 @@ func Check(s *site.Site, p *plan.Plan, eng *media.Engine) error {
 	return err
 }
 
+// NoDiverse lists the diverse links of the plan that can have no second route however the
+// plan routes them (routing.NoDiverse: one lateral only, or every route through one span,
+// junction or shared-risk group such as one trench), one line each, in link order: the
+// building the link serves, then its diverse leg and the reason plan gives that leg,
+// "building B, L-1/diverse: no diverse route: …". Plan then finishes with that leg
+// infeasible (ErrInfeasible); check says so beforehand. It returns Check's error when the
+// plan has a problem Check finds.
+func NoDiverse(s *site.Site, p *plan.Plan, eng *media.Engine) ([]string, error) {
+	prep, err := prepare(s, p, eng)
+	if err != nil {
+		return nil, err
+	}
+	why, err := routing.NoDiverse(s, prep.model, prep.links)
+	if err != nil {
+		return nil, err
+	}
+	var out []string
+	for i, l := range prep.links {
+		if r, ok := why[i]; ok {
+			out = append(out, fmt.Sprintf("building %s, %s/%s: %s", l.To, l.ID, routing.LegDiverse, r))
+		}
+	}
+	return out, nil
+}
+
 // prepared is a plan resolved on a site, ready to route.
 type prepared struct {
 	hub   string

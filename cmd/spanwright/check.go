@@ -72,6 +72,16 @@ func runCheck(ctx context.Context, args []string, db string, maxBytes int64, opt
 			st.ThroughFor(&rep, links)
 		}
 	}
+	// Everything plan rejects before routing, check rejects too (route.Check, which NoDiverse
+	// runs first), after the report; the diverse links plan would leave with one route go into it.
+	var planErr error
+	if p != nil && rep.Hub != "" {
+		eng, err := plan.Engine(p)
+		if err == nil {
+			rep.NoDiverse, err = route.NoDiverse(st, p, eng)
+		}
+		planErr = err
+	}
 	if err := output.PrintCheck(w, rep, opt); err != nil {
 		return err
 	}
@@ -79,15 +89,8 @@ func runCheck(ctx context.Context, args []string, db string, maxBytes int64, opt
 		_, err := st.Hub(p) // the plan's problem, at the hub's line
 		return err
 	}
-	if p != nil {
-		// Everything plan rejects before routing, check rejects too.
-		eng, err := plan.Engine(p)
-		if err != nil {
-			return err
-		}
-		if err := route.Check(st, p, eng); err != nil {
-			return err
-		}
+	if planErr != nil {
+		return planErr
 	}
 	// As plan: the buildings cut off, and those reached only through a building routes may not
 	// cross, cannot be served (exit 3); the rest can be planned.
@@ -99,6 +102,10 @@ func runCheck(ctx context.Context, args []string, db string, maxBytes int64, opt
 	if len(rep.ThroughOnly) > 0 {
 		cannot = append(cannot, fmt.Sprintf("%s the hub %s only through another building routes may not cross: %s",
 			output.Counted(len(rep.ThroughOnly), "building reaches", "buildings reach"), escape.Terminal(rep.Hub), escape.TerminalList(rep.ThroughOnly)))
+	}
+	if len(rep.NoDiverse) > 0 {
+		cannot = append(cannot, fmt.Sprintf("%s no second route, as plan would find: %s",
+			output.Counted(len(rep.NoDiverse), "diverse link has", "diverse links have"), escape.Terminal(strings.Join(rep.NoDiverse, "; "))))
 	}
 	if len(cannot) > 0 {
 		return fmt.Errorf("%w: %s", route.ErrInfeasible, strings.Join(cannot, "; "))

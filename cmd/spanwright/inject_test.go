@@ -352,7 +352,9 @@ func TestPayloadTerminal(t *testing.T) {
 		want string // on stdout or stderr
 	}{
 		{[]string{"check", islandPlan}, exitInfeasible, "cannot reach it: [ISLE<U+000A>" + forged + "]"},
-		{[]string{"check", plan}, exitOK, "hub         <U+001B>[31mRED: every building can reach it"},
+		// check, as plan, finds the diverse routes the single trunk cannot give (exit 3).
+		{[]string{"check", plan}, exitInfeasible, "hub         <U+001B>[31mRED: every building can reach it"},
+		{[]string{"check", plan}, exitInfeasible, "building B<U+202E>evil<U+2066>, <U+001B>[31mRED-B<U+202E>evil<U+2066>/diverse: no diverse route: "},
 		{[]string{"plan", plan, "--out", filepath.Join(dir, "out")}, exitInfeasible, "  <U+001B>[31mRED-B<U+202E>evil<U+2066>/diverse: "},
 		{[]string{"plan", plan, "--out", filepath.Join(dir, "out2"), "--prices", filepath.Join(dir, "none\x1b[2J.yaml")}, exitInvalid, "none<U+001B>[2J.yaml"},
 	} {

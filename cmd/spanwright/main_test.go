@@ -263,3 +263,50 @@ func TestIntersperse(t *testing.T) {
 		t.Errorf("got %q, want %q", got, want)
 	}
 }
+
+// TestCheckDiverseAsPlan: a diverse link that can have no second route (its only pathway one
+// tunnel; or its two ducts in one trench, one shared-risk group) makes plan finish with its
+// diverse leg infeasible (exit 3), so check reports it beforehand and exits 3 too, naming the
+// building and giving the reason in plan's own words. Routes that share one trench are not
+// diverse: ANSI/TIA-569 asks redundant pathways to take physically separate routes (from
+// memory); two ducts in trenches of their own are diverse, and both commands exit 0.
+func TestCheckDiverseAsPlan(t *testing.T) {
+	cases := []struct {
+		plan, building string
+		code           int
+	}{
+		{"diverse_far", "NEAR", exitInfeasible},
+		{"diverse_trench", "LAB", exitInfeasible},
+		{"diverse_apart", "", exitOK},
+	}
+	for _, tc := range cases {
+		t.Run(tc.plan, func(t *testing.T) {
+			path := "testdata/plans/" + tc.plan + ".yaml"
+			planOut, planMsg, planCode := run(t, "plan", path, "--out", t.TempDir())
+			checkOut, checkMsg, checkCode := run(t, "check", path)
+			if planCode != tc.code || checkCode != tc.code {
+				t.Fatalf("%s: plan exit %d, check exit %d, want %d for both (%s; %s)", tc.plan, planCode, checkCode, tc.code, planMsg, checkMsg)
+			}
+			if tc.code == exitOK {
+				return
+			}
+			// plan's line for the leg: "  HQ-NEAR/diverse: no diverse route: …".
+			var leg string
+			for _, l := range strings.Split(planOut, "\n") {
+				if l = strings.TrimSpace(l); strings.Contains(l, "/diverse: no diverse route: ") {
+					leg = l
+				}
+			}
+			if leg == "" {
+				t.Fatalf("%s: plan names no diverse leg without a route:\n%s", tc.plan, planOut)
+			}
+			want := "building " + tc.building + ", " + leg
+			if !strings.Contains(checkMsg, want) {
+				t.Errorf("%s: check's error says\n%s\nwant %q", tc.plan, checkMsg, want)
+			}
+			if !strings.Contains(checkOut, "diverse     1 diverse link has no second route, however planned:\n  "+want+"\n") {
+				t.Errorf("%s: check's report lacks the link:\n%s", tc.plan, checkOut)
+			}
+		})
+	}
+}

@@ -166,6 +166,9 @@ type Construction struct {
 	// (Entrances with a LateralM): built whether or not the plan may open new spans.
 	LateralM   float64
 	AddedDuctM float64 // duct metres added: new duct in opened duct spans plus added ducts
+	// AddedDuctWalls is the building walls that ducts added beside full ones enter where the
+	// full ducts already do: each takes a penetration of its own (items.AddedDuctWalls).
+	AddedDuctWalls int
 	// NewJunctions, TapJunctions and TurnJunctions are the handholes the plan adds at
 	// junctions with no structure (routing.Routed.Handholes), each junction in one of them
 	// only, under the first of its reasons (routing.Handhole.Purpose), by junction ID in the
@@ -243,6 +246,7 @@ type run struct {
 const (
 	keyBore      = "\x00bore"
 	keyAddedDuct = "\x00added duct"
+	keyDuctWall  = "\x00added duct's wall"
 )
 
 // Sources of bill quantities (media.Quantity.From).
@@ -884,12 +888,17 @@ func (r *run) construction() {
 			c.TurnJunctions = append(c.TurnJunctions, h.Junction)
 		}
 	}
+	builtAt := s.BuiltEntriesAt()
 	for _, f := range r.Fill {
 		if f.AddedDucts > 0 {
 			sp, _ := s.Net.Span(f.Span)
 			c.newWork(design, &sp, items.MethodOf(r.Engine.PriceBook(), design, &sp), r.newFrom, fromSpan(f.Span))
 			c.AddedDuctM += float64(f.AddedDucts) * sp.LengthM
 			r.newFrom[keyAddedDuct] = append(r.newFrom[keyAddedDuct], fromSpan(f.Span))
+			if n := items.AddedDuctWalls(builtAt, &sp); n > 0 {
+				c.AddedDuctWalls += n
+				r.newFrom[keyDuctWall] = append(r.newFrom[keyDuctWall], fromSpan(f.Span))
+			}
 		}
 	}
 	c.NewM = c.BoreM
@@ -1112,6 +1121,9 @@ func (r *run) quantities() {
 			}
 		}
 		e.Quantities = append(e.Quantities, one(items.TapHandholes(len(con.TapJunctions)), at))
+	}
+	for _, q := range items.AddedDuctEntrances(p, con.AddedDuctWalls) {
+		e.Quantities = append(e.Quantities, one(q, r.newFrom[keyDuctWall]))
 	}
 	// The entries, new or there already (items.Entrance), one line of each.
 	for _, built := range []bool{false, true} {

@@ -372,3 +372,25 @@ func LoopM(s *site.Site, d plan.Design, id string) float64 {
 
 // wasted is metres of cable with the design's waste.
 func Wasted(d plan.Design, metres float64) float64 { return metres * (1 + d.WastePct/100) }
+
+// AddedDuctWalls counts the building walls a duct added beside existing span sp enters: the
+// span's ends at entrances there already (geo.Entry.Built; builtAt is
+// site.Site.BuiltEntriesAt). The full duct went through the wall by a sleeve of its own; the
+// new duct beside it cannot use that sleeve and needs its own penetration (AddedDuctEntrances),
+// while an entrance that is new is priced a penetration anyway (Entrance).
+func AddedDuctWalls(builtAt map[string]int, sp *geo.Span) int {
+	return builtAt[sp.From] + builtAt[sp.To]
+}
+
+// AddedDuctEntrances is what ducts added beside full ones take where they enter buildings
+// through n walls an existing pathway already enters (AddedDuctWalls): a new penetration,
+// sleeve and firestop at each (one for the ducts a trench adds, however many, as the trench
+// is one), priced as a new building entrance (building_entrance_each; README, "Building
+// entry"). A book without that price prices none, as Entrance does.
+func AddedDuctEntrances(p *media.PriceBook, n int) []media.Quantity {
+	if n <= 0 || !p.Has(media.PriceEntrance) {
+		return nil
+	}
+	return []media.Quantity{{Category: media.CategoryConstruction, Item: "building entrance for a duct added beside a full one: penetration, sleeve, firestop",
+		Unit: media.UnitEach, Amount: float64(n), Price: media.PriceKey{Item: media.PriceEntrance}}}
+}

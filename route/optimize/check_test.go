@@ -188,7 +188,7 @@ func verifyErr(p *Problem, sol *Solution) error {
 		}
 		wantDucts += int64(f.AddedDucts) * int64(math.Round(p.Edges[f.Edge].LengthM*float64(p.Edges[f.Edge].AddDuctPerMCents)))
 		if f.AddedDucts > 0 {
-			wantDucts += int64(math.Round(p.Edges[f.Edge].LengthM * float64(p.Edges[f.Edge].AddTrenchPerMCents)))
+			wantDucts += int64(math.Round(p.Edges[f.Edge].LengthM*float64(p.Edges[f.Edge].AddTrenchPerMCents))) + p.Edges[f.Edge].AddTrenchCents
 		}
 		if f.Limited && f.UsedAreaMM2 > f.AllowedAreaMM2+1e-6 && f.AddedDucts == 0 && p.Fits == nil {
 			return fmt.Errorf("edge %d: %.1f mm² used exceeds %.1f mm² allowed", f.Edge, f.UsedAreaMM2, f.AllowedAreaMM2)

@@ -53,6 +53,7 @@ func Fingerprint(p *Problem, opt Settings) (sum [sha256.Size]byte, ok bool) {
 		f.float(e.DuctIDMM)
 		f.int(e.AddDuctPerMCents)
 		f.int(e.AddTrenchPerMCents)
+		f.int(e.AddTrenchCents)
 	}
 	f.int(int64(len(p.Demands)))
 	for i := range p.Demands {

@@ -63,6 +63,10 @@ type Edge struct {
 	// AddTrenchPerMCents is the price, in cents per metre, of the trench or bore the first
 	// added duct needs along this edge: paid once, however many ducts are added.
 	AddTrenchPerMCents int64
+	// AddTrenchCents is the price, in cents, of the work at the ends of that trench, paid
+	// with it: the wall penetrations where the added ducts enter buildings through walls the
+	// full ducts already enter.
+	AddTrenchCents int64
 }
 
 // limited reports whether the edge's capacity is checked.
@@ -280,6 +284,9 @@ func validate(p *Problem, s Settings) error {
 		}
 		if e.AddTrenchPerMCents < 0 || e.AddTrenchPerMCents > maxPerMCents {
 			bad("%s: added-duct trench price per metre: want cents in [0, %d], got %d", name, int64(maxPerMCents), e.AddTrenchPerMCents)
+		}
+		if e.AddTrenchCents < 0 || e.AddTrenchCents > maxFixedCents {
+			bad("%s: added-duct trench ends: want cents in [0, %d], got %d", name, int64(maxFixedCents), e.AddTrenchCents)
 		}
 		if e.AddDuctPerMCents < 0 || e.AddDuctPerMCents > maxPerMCents {
 			bad("%s: add-duct price per metre: want cents in [0, %d], got %d", name, int64(maxPerMCents), e.AddDuctPerMCents)

@@ -33,7 +33,15 @@ const (
 func bomUnit(opt WriteOptions, l media.BOMLine) (unit string, qty, unitPrice float64) {
 	unit, qty, unitPrice = l.Unit, l.Quantity, float64(l.UnitCents)/100
 	if opt.imperial() && l.Unit == media.UnitM {
-		return "ft", install.MToFt(l.Quantity), unitPrice * install.MPerFt
+		// The metres summed, converted, then rounded (Units.Rounded): not the billed 0.1 m
+		// converted, which can show 0.1 ft off what the terminal and the report show. The
+		// price per foot is then the extended price over the feet shown, so that the row
+		// multiplies out (the extended price stays the metric line's).
+		ft := UnitsOf(opt).Rounded(l.Summed, qtyDecimals("ft"))
+		if ft <= 0 {
+			return "ft", ft, unitPrice * install.MPerFt
+		}
+		return "ft", ft, float64(l.ExtendedCents) / 100 / ft
 	}
 	return unit, qty, unitPrice
 }
@@ -164,6 +172,12 @@ func UnitsOf(opt WriteOptions) Units {
 	}
 	return Units{"m", "N", "N/m", "mm", id, id, id, id}
 }
+
+// Rounded is metres m in the length unit, rounded to decimals (halves away from zero): the
+// one way every output for people (the terminal, the report, bom.csv, the workbook) turns a
+// length into the figure it shows, always from the unrounded metric figure, so that one
+// length never shows two ways (metres rounded first and then converted can be 0.1 ft off).
+func (u Units) Rounded(m float64, decimals int) float64 { return roundHalfAway(u.M(m), decimals) }
 
 // bomXLSX renders bom.xlsx: sheets summary, links (the cable schedule), bill of materials,
 // pull sections, duct fill and loss budgets. Extended prices, subtotals, markups, the
@@ -306,7 +320,7 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 	ref := func(row int) string { return "'bill of materials'!" + workbook.Ref(5, row) }
 
 	// Summary: figures, then the money as formulas on the bill of materials.
-	s := Summarize(r)
+	s, lengths := Summarize(r), TotalsOf(r)
 	text := func(fig, v string) { sum.Append(workbook.Text(fig), workbook.Text(v)) }
 	num := func(fig string, v float64, d int, unit string) {
 		sum.Append(workbook.Text(fig), workbook.Number(v, d), workbook.Text(unit))
@@ -320,9 +334,9 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 	num("links", float64(s.Links), 0, "")
 	num("legs", float64(s.Legs), 0, "")
 	num("infeasible legs", float64(s.Infeasible), 0, "")
-	num("route", u.M(s.TotalRouteM), 1, u.Length)
-	num("cable bought", u.M(s.CableM), 1, u.Length)
-	num("new trench", u.M(s.NewTrenchM), 1, u.Length)
+	num("route", u.Rounded(lengths.RouteM, 1), 1, u.Length)
+	num("cable bought", u.Rounded(lengths.CableM, 1), 1, u.Length)
+	num("new trench", u.Rounded(lengths.NewM, 1), 1, u.Length)
 	num("pull sections", float64(s.PullSections), 0, "")
 	num("added pull points", float64(s.AddedPullPoints), 0, "")
 	for _, c := range b.Subtotal {

@@ -49,10 +49,7 @@ func (o WriteOptions) imperial() bool { return o.Units == UnitsImperial }
 
 // lengthCol returns a length column's header and a formatter for its values.
 func (o WriteOptions) lengthCol(name string) (string, func(m float64) string) {
-	if o.imperial() {
-		return name + "_ft", func(m float64) string { return strconv.FormatFloat(m*FtPerM, 'f', 1, 64) }
-	}
-	return name + "_m", func(m float64) string { return strconv.FormatFloat(m, 'f', 1, 64) }
+	return name + "_" + UnitsOf(o).Length, func(m float64) string { return ftOrM(o, m, 1) }
 }
 
 // File is one output file of a planned scenario: its name in the output folder and how to
@@ -493,11 +490,30 @@ func newWorkM(e *estimate.Estimate) float64 {
 	return e.Construction.NewM
 }
 
+// Totals are a plan's length totals, unrounded: the route of its feasible legs, the cable
+// bought for every leg (waste included) and the new civil work (Construction.NewM).
+// Summarize rounds them to 0.1 m for summary.json; the outputs for people show these,
+// converted and then rounded (Units.Rounded), so that a total in feet is the metres' own.
+type Totals struct{ RouteM, CableM, NewM float64 }
+
+// TotalsOf adds up the totals of r.
+func TotalsOf(r *route.Result) Totals {
+	t := Totals{NewM: newWorkM(r.Estimate)}
+	for _, l := range r.Legs {
+		t.CableM += l.Cable.LengthM * float64(l.Cable.Cables)
+		if l.Feasible {
+			t.RouteM += l.RouteM
+		}
+	}
+	return t
+}
+
 // Summarize digests the result.
 func Summarize(r *route.Result) Summary {
+	tot := TotalsOf(r)
 	s := Summary{Format: SummaryFormat, Scenario: r.Plan.Name, Hub: r.Hub, Buildings: len(r.Site.Campus.Buildings),
 		Links: len(r.Links), Legs: len(r.Legs), Warnings: append([]string{}, r.Warnings...), Notes: r.Notes,
-		MediaMix: map[string]int{}, Currency: r.Currency, NewTrenchM: round1(newWorkM(r.Estimate)),
+		MediaMix: map[string]int{}, Currency: r.Currency, NewTrenchM: round1(tot.NewM),
 		StartedFrom: r.StartedFrom}
 	if DemoPrices(r) {
 		s.DemoPrices = DemoPricesWarning
@@ -505,14 +521,12 @@ func Summarize(r *route.Result) Summary {
 	feasibleLegs := map[string]int{}
 	for _, l := range r.Legs {
 		s.ModelCents += l.Cost.TotalCents()
-		s.CableM += l.Cable.LengthM * float64(l.Cable.Cables)
 		s.MidSpanSplices += l.Cable.Joins * l.Cable.Cables
 		if !l.Feasible {
 			s.Infeasible++
 			continue
 		}
 		feasibleLegs[l.Link.ID]++
-		s.TotalRouteM += l.RouteM
 		if len(l.Crosses) > 0 {
 			s.CrossingLegs++
 		}
@@ -561,7 +575,7 @@ func Summarize(r *route.Result) Summary {
 			s.WarningCounts["budget"] = 1
 		}
 	}
-	s.CableM = round1(s.CableM)
+	s.CableM = round1(tot.CableM)
 	for _, l := range r.Links {
 		if l.Diverse {
 			if feasibleLegs[l.ID] == 2 {
@@ -576,7 +590,7 @@ func Summarize(r *route.Result) Summary {
 		pct := round1(100 * float64(over) / float64(budget))
 		s.BudgetCents, s.OverBudgetCents, s.OverBudgetPct = &budget, &over, &pct
 	}
-	s.TotalRouteM = round1(s.TotalRouteM)
+	s.TotalRouteM = round1(tot.RouteM)
 	s.WarningCount = len(s.Warnings)
 	return s
 }
@@ -628,11 +642,11 @@ func GapText(gapPct *float64) string {
 // bought by construction, new construction, pulling, and the total against the budget,
 // lengths and forces in the units of opt.
 func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
-	s := Summarize(r)
+	s, tot := Summarize(r), TotalsOf(r)
 	u := UnitsOf(opt)
 	length := func(m float64) string { return LengthText(opt, m) }
 	t := escape.Terminal // ids and names from the input, each within a line
-	fmt.Fprintf(w, "plan %q: hub %s, %s, %s, %s of route\n", s.Scenario, t(s.Hub), Counted(s.Links, "link", "links"), Counted(s.Legs, "leg", "legs"), length(s.TotalRouteM))
+	fmt.Fprintf(w, "plan %q: hub %s, %s, %s, %s of route\n", s.Scenario, t(s.Hub), Counted(s.Links, "link", "links"), Counted(s.Legs, "leg", "legs"), length(tot.RouteM))
 	for _, n := range s.Notes {
 		fmt.Fprintf(w, "note: %s\n", t(n))
 	}
@@ -669,7 +683,7 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 		for _, k := range slices.Sorted(maps.Keys(byCons)) {
 			parts = append(parts, t(k)+" "+length(byCons[k]))
 		}
-		fmt.Fprintf(w, "cable bought: %s (%s in all, %s)\n", strings.Join(parts, ", "), length(s.CableM), Counted(s.MidSpanSplices, "mid-span splice", "mid-span splices"))
+		fmt.Fprintf(w, "cable bought: %s (%s in all, %s)\n", strings.Join(parts, ", "), length(tot.CableM), Counted(s.MidSpanSplices, "mid-span splice", "mid-span splices"))
 	}
 	if s.CrossingLegs > 0 || s.TurnHandholes > 0 {
 		fmt.Fprintf(w, "legs through a building: %d; handholes to add where a route turns between pathways: %d (see links.csv)\n",
@@ -808,7 +822,7 @@ func PullUnits(opt WriteOptions) install.Units {
 
 // ftOrM formats a length for an output edge: metres, or feet when imperial.
 func ftOrM(opt WriteOptions, m float64, decimals int) string {
-	return strconv.FormatFloat(UnitsOf(opt).M(m), 'f', decimals, 64)
+	return strconv.FormatFloat(UnitsOf(opt).Rounded(m, decimals), 'f', decimals, 64)
 }
 
 // PrintCheck writes a check report as aligned text; lengths in metres, or feet when imperial
@@ -863,6 +877,12 @@ func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
 	if len(r.Served) > 0 {
 		fmt.Fprintf(w, "through     %s the hub only through another building, and the plan serves it from a cross-connect it reaches: %s\n",
 			Counted(len(r.Served), "building reaches", "buildings reach"), escape.TerminalList(r.Served))
+	}
+	if len(r.NoDiverse) > 0 {
+		fmt.Fprintf(w, "diverse     %s no second route, however planned:\n", Counted(len(r.NoDiverse), "diverse link has", "diverse links have"))
+		for _, why := range r.NoDiverse {
+			fmt.Fprintf(w, "  %s\n", t(InUnits(opt, why)))
+		}
 	}
 	// The entrances, one line per building that has more than one or a declared one.
 	var multi []string

@@ -55,7 +55,7 @@ func (o Options) diameters(mm []float64) string {
 
 // length formats metres in the report's unit with one decimal and thousands separators.
 func (o Options) length(m float64) string {
-	return group(strconv.FormatFloat(o.units().M(m), 'f', 1, 64))
+	return group(strconv.FormatFloat(o.units().Rounded(m, 1), 'f', 1, 64))
 }
 
 // lengthU is length with its unit.

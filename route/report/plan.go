@@ -377,8 +377,9 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 	sort.Slice(v.Buildings, func(i, j int) bool { return v.Buildings[i].ID < v.Buildings[j].ID })
 	v.HubName = names[r.Hub]
 	v.Feasible = s.Legs - s.Infeasible
-	v.TotalRoute = opt.lengthU(s.TotalRouteM)
-	v.NewTrench = opt.lengthU(s.NewTrenchM)
+	tot := output.TotalsOf(r)
+	v.TotalRoute = opt.lengthU(tot.RouteM)
+	v.NewTrench = opt.lengthU(tot.NewM)
 	if r.Estimate != nil && r.Estimate.Construction.LateralM > 0 {
 		v.Laterals = opt.lengthU(r.Estimate.Construction.LateralM)
 	}

@@ -220,8 +220,9 @@ func TestPlanContent(t *testing.T) {
 // TestPlanImperial shows lengths in feet (1 ft = 0.3048 m exactly).
 func TestPlanImperial(t *testing.T) {
 	html := render(t, demoPlan, Options{Units: output.UnitsImperial})
-	// 13 958.8 m / 0.3048 = 45 796.6 ft.
-	if !strings.Contains(html, "45,796.6 ft") {
+	// The unrounded 13 958.77… m (summary.json: 13 958.8) / 0.3048 = 45 796.5 ft: the metres
+	// are converted before rounding (output.Units.Rounded), as in every other output.
+	if !strings.Contains(html, "45,796.5 ft") {
 		t.Error("imperial report lacks the total route in feet")
 	}
 	if !strings.Contains(html, "lengths in ft") || !strings.Contains(html, "Tension (lbf)") {

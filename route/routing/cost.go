@@ -226,6 +226,7 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 		}
 	}
 	// Duct fill: the optimizer's incremental NFPA 70 Chapter 9 Table 1 packing (nil Fits).
+	builtAt := s.BuiltEntriesAt()
 	for i := range net.Spans {
 		sp := &net.Spans[i]
 		u, v := lay.spanEnds[i][0], lay.spanEnds[i][1]
@@ -262,6 +263,9 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 			if d.AllowNewTrench && m.prices.Check(items.KeysOf(append(work, items.AddedDuct(1)))) == nil && m.perM(items.AddedDuct(1)) > 0 {
 				e.AddDuctPerMCents = m.perM(items.AddedDuct(1))
 				e.AddTrenchPerMCents = m.perM(append(work, m.bidItems(media.BidBases{NewBuriedM: 1})...)...)
+				// The ducts enter a building through a wall the full ones already enter: a
+				// penetration of their own, paid with the trench.
+				e.AddTrenchCents = m.cents(items.AddedDuctEntrances(m.prices, items.AddedDuctWalls(builtAt, sp))...)
 			}
 		}
 		p.Edges[i] = e
@@ -416,6 +420,7 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link) (optimize.Demand,
 			l.To, l.From, lay.name[srcN]))
 		return dm, info
 	}
+	outside := lateral > 0 || slices.ContainsFunc(lay.classes, func(c spanClass) bool { return c.outdoor })
 	for _, med := range m.eng.Media() {
 		mm := m.eng.Catalog().Medium(med)
 		if lateral > 0 && !m.allowed(s, med, rate, future, strands, lateralClass) {
@@ -428,8 +433,11 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link) (optimize.Demand,
 				exclude |= lay.classBit[c]
 			}
 		}
-		maxCh := s.Reaches.MaxChannelM(m.eng, med, rate, future, facts) // shared by a sweep's price books
-		maxRoute := maxCh - riser - slack - lateral
+		maxCh := m.reachM(s, med, rate, future, facts, outside)
+		// The route may take what the channel leaves of the reach: the channel also holds the
+		// risers, the service coils and entrance loops, the halves of the slack loops at the
+		// end structures and the laterals (takeoff), whatever the route.
+		maxRoute := maxCh - riser - coils - endLoops - lateral
 		perM := m.cableFor(med, rate, facts, coils+2*endLoops)
 		fixed := m.eng.FixedCentsFor(med, rate, facts)
 		switch {
@@ -437,7 +445,7 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link) (optimize.Demand,
 			info.excluded = append(info.excluded, fmt.Sprintf("%s: the price book prices no cable, termination or transceiver it needs at %s", med, media.FormatRate(rate)))
 			continue
 		case maxRoute <= 0:
-			info.excluded = append(info.excluded, fmt.Sprintf("%s: reaches at most %.1f m of channel; risers, slack and laterals alone take %.1f m", med, maxCh, riser+slack+lateral))
+			info.excluded = append(info.excluded, fmt.Sprintf("%s: reaches at most %.1f m of channel; risers, slack loops and laterals alone take %.1f m", med, maxCh, maxCh-maxRoute))
 			continue
 		}
 		// What the leg takes whatever its path: the cable of its risers, laterals, service coils,
@@ -463,6 +471,63 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link) (optimize.Demand,
 		info.options = append(info.options, med)
 	}
 	return dm, info
+}
+
+// reachM is the longest channel, in metres, over which medium carries a link of facts with
+// the splices the plan puts in a channel that long: the mid-span splices between reels of
+// design.reel_m (reels) and, outside, the repair splices of the margin policy. Each is loss in
+// the budget (ANSI/TIA-568.3-D: 0.3 dB a fusion splice), so a long single-mode channel
+// reaches less than media.Engine.MaxChannelM says for an inside link with no splices (issue
+// 16: 17,760 m of route quoted with neither; 12,000 m with the three reel splices and the
+// repair splices of its outside plant, where the media choice then agrees). It is the one
+// reach the optimizer keeps a route within and its reasons quote (less what the channel
+// holds besides the route, demand).
+//
+// With outside, when the campus has pathways outside the buildings (or the link a lateral),
+// the reach is also measured on a route that leaves them: its outside plant then counts the
+// repair splices the margin policy allows per km of single-mode outside plant, as the leg's
+// own facts will (fillLeg), and the shorter of the two reaches is kept. A medium the rules
+// keep out of outside plant altogether keeps its reach inside: which spans it may use is the
+// span classes' matter (Model.allowed), not the reach's.
+func (m *Model) reachM(s *site.Site, medium string, rate, future float64, facts media.Link, outside bool) float64 {
+	r := m.reachWithJoinsM(s, medium, rate, future, facts)
+	if outside {
+		facts.Outdoor = true
+		out := m.reachWithJoinsM(s, medium, rate, future, facts)
+		if out > 0 {
+			r = min(r, out)
+		}
+	}
+	return r
+}
+
+// reachWithJoinsM is reachM on the facts as they are. R(n), the engine's longest channel
+// with n splices more, falls as n grows while joinsUpToM(n) grows, so the reach is in the band
+// of the first n with R(n) ≤ joinsUpToM(n): R(n) there, or the top of the band below when
+// R(n) falls short of it (that band's channels all close). That n is at most the joins of a
+// channel R(0) long, and is found counting down from there: a few of the engine's answers,
+// not one per band.
+func (m *Model) reachWithJoinsM(s *site.Site, medium string, rate, future float64, facts media.Link) float64 {
+	base := facts.Splices
+	at := func(n int) float64 {
+		facts.Splices = base + n
+		return s.Reaches.MaxChannelM(m.eng, medium, rate, future, facts) // shared by a sweep's price books
+	}
+	r0 := at(0)
+	if r0 <= joinsUpToM(m.design, 0) {
+		return r0 // one reel (or no reel limit) carries it
+	}
+	_, reelsAt := reels(m.design, r0)
+	n := reelsAt - 1 // R(n) ≤ R(0) ≤ joinsUpToM(n)
+	rn := at(n)
+	for n > 1 {
+		r := at(n - 1)
+		if r > joinsUpToM(m.design, n-1) {
+			break
+		}
+		n, rn = n-1, r
+	}
+	return max(rn, joinsUpToM(m.design, n-1))
 }
 
 // cableKey is what cableFor's answer depends on.

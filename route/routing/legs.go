@@ -146,7 +146,7 @@ func legsOf(s *site.Site, cm *Model, lay *layout, prob *optimize.Problem, rt *op
 				d.ReasonCode = CodeSharedPt
 			}
 		} else {
-			d.Reason, d.ReasonCode = "no diverse route: "+singlePoint(s, lay, prob, rt), CodeNoDiverse
+			d.Reason, d.ReasonCode = NoDiverseRoute+singlePoint(s, lay, prob, rt.SinglePoint, rt.Note), CodeNoDiverse
 		}
 		legs = append(legs, d)
 	}
@@ -292,12 +292,47 @@ func worstMargin(ls []media.Loss) float64 {
 	return w
 }
 
+// NoDiverseRoute begins the reason of a diverse leg that got no route of its own; what every
+// route shares follows (singlePoint).
+const NoDiverseRoute = "no diverse route: "
+
+// NoDiverse lists, by index into links, the diverse links that can have no second route on
+// the network as the plan may use it (optimize.NoDiversePair: proved before any search),
+// each with the reason its diverse leg would carry: NoDiverseRoute and what every route
+// shares, in the words the plan gives.
+func NoDiverse(s *site.Site, m *Model, links []site.Link) (map[int]string, error) {
+	// The problem of the diverse links alone: the network and its prices are the plan's, and
+	// a demand's pair does not depend on the others.
+	var diverse []site.Link
+	var index []int
+	for i, l := range links {
+		if l.Diverse {
+			diverse, index = append(diverse, l), append(index, i)
+		}
+	}
+	if len(diverse) == 0 {
+		return nil, nil
+	}
+	prob, lay, _, err := problem(s, m, diverse, m.runsOf(s))
+	if err != nil {
+		return nil, err
+	}
+	points, err := optimize.NoDiversePair(prob)
+	if err != nil {
+		return nil, fmt.Errorf("route: optimizer: %w", err)
+	}
+	out := make(map[int]string, len(points))
+	for d, sp := range points {
+		out[index[d]] = NoDiverseRoute + singlePoint(s, lay, prob, &sp, "")
+	}
+	return out, nil
+}
+
 // singlePoint says in words what keeps a diverse link from two independent routes.
-func singlePoint(s *site.Site, lay *layout, prob *optimize.Problem, rt *optimize.Route) string {
-	sp := rt.SinglePoint
+func singlePoint(s *site.Site, lay *layout, prob *optimize.Problem, sp *optimize.SinglePoint, note string) string {
 	if sp == nil {
-		if rt.Note != "" {
-			return rt.Note
+		if note != "" {
+			return note
 		}
 		return "no second route found"
 	}

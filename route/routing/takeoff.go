@@ -55,13 +55,40 @@ func takeoff(s *site.Site, d plan.Design, leg *Leg) CableTakeoff {
 	t.StructureLoopM = float64(t.Structures) * d.SlackLoopStructureM
 	t.ChannelM = leg.RouteM + leg.RiserM + t.SlackM()
 	t.WasteM = t.ChannelM * d.WastePct / 100
-	t.LengthM = math.Ceil(t.ChannelM + t.WasteM - 1e-9)
-	t.Reels = 1
-	if d.ReelM > 0 { // a plan built in code may leave it 0: no reel limit
-		t.Reels = max(1, int(math.Ceil(t.LengthM/d.ReelM-1e-9)))
-	}
+	t.LengthM, t.Reels = reels(d, t.ChannelM)
 	t.Joins = t.Reels - 1
 	return t
+}
+
+// reels is the cable bought for a channel of channelM metres (with the design's waste,
+// rounded up to a whole metre) and the reels of at most design.reel_m it takes: the one
+// decision of how many mid-span splices (reels − 1) a channel that long gets, for the takeoff
+// and for the reach the optimizer keeps a route within (Model.reachM).
+func reels(d plan.Design, channelM float64) (lengthM float64, n int) {
+	lengthM = math.Ceil(channelM + channelM*d.WastePct/100 - 1e-9)
+	n = 1
+	if d.ReelM > 0 { // a plan built in code may leave it 0: no reel limit
+		n = max(1, int(math.Ceil(lengthM/d.ReelM-1e-9)))
+	}
+	return lengthM, n
+}
+
+// joinsUpToM is the longest channel, in metres, whose cable takes at most joins mid-span
+// splices (reels); +Inf without a reel limit.
+func joinsUpToM(d plan.Design, joins int) float64 {
+	if d.ReelM <= 0 {
+		return math.Inf(1)
+	}
+	// The length bought is whole metres: at most (joins+1) reels of reel_m.
+	boughtM := math.Floor(float64(joins+1)*d.ReelM + 1e-9)
+	x := boughtM / (1 + d.WastePct/100)
+	for i := 0; i < 64; i++ { // the float division may land a hair above: step down to the last length that fits
+		if _, n := reels(d, x); n <= joins+1 {
+			break
+		}
+		x = math.Nextafter(x, 0) - 1e-9*x
+	}
+	return x
 }
 
 // Fit fills the takeoff's cable size from the rule engine's choice; with an entrance

@@ -27,6 +27,10 @@ type CheckReport struct {
 	// Served lists the buildings that reach the hub only through another building but that
 	// a plan's links serve from a cross-connect they reach (ThroughFor); nil without a plan.
 	Served []string
+	// NoDiverse lists, given a plan, its diverse links that can have no second route, each
+	// with its building and the reason plan gives its diverse leg (route.NoDiverse, which the
+	// caller sets it from); nil without a plan.
+	NoDiverse []string
 	// Entrances lists every building's entrances, by building then entrance ID.
 	Entrances []geo.Entry
 	// Turns lists the junctions where a turn from one pathway into another needs a structure

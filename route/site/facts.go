@@ -154,7 +154,10 @@ func (s *Site) ThroughOnly(hub string) []string {
 // must be drawn inside them; a pathway to b that passes no building; or serving b from a
 // building in the way (role ic, and a link from it).
 func (s *Site) Through(b, hub string) string {
-	_, in := s.search(b, hub)
+	in := s.inTheWay(b, hub)
+	if len(in) == 0 { // not joined to the hub at all: name what the search met
+		_, in = s.search(b, hub)
+	}
 	list := strings.Join(in, ", ")
 	them, one := "them", "one of them"
 	if len(in) == 1 {
@@ -168,6 +171,39 @@ func (s *Site) Through(b, hub string) string {
 	return fmt.Sprintf("building %s reaches %s only through %s: a route crosses a building only along a pathway drawn inside it (a tunnel or tray), "+
 		"or where pathways meet at one point inside it and it has the property %s: true; to serve %s, %s; or draw a pathway to %s that passes no building; "+
 		"or serve it from %s (role ic, and a link from it)", b, hub, list, geo.PropTransit, b, transit, b, one)
+}
+
+// inTheWay lists, sorted, the buildings a route from building b to the hub must cross: not
+// every building the search from b meets (a building at the end of a spur is met and is in
+// nobody's way), but a smallest set of them (none can be left out) that, crossed, lets a route
+// reach the hub. The search crosses the buildings it meets layer by layer until it reaches
+// the hub, then leaves out, one at a time in order, each it can do without. Nil when no set
+// would do (b is cut off: CutOff).
+func (s *Site) inTheWay(b, hub string) []string {
+	reaches := func(cross []string) (bool, []string) {
+		seen, met := s.walk(b, hub, nil, cross)
+		return seen.any(s, s.Net.EntrancesOf(hub)), met
+	}
+	var cross []string
+	for {
+		ok, met := reaches(cross)
+		if ok {
+			break
+		}
+		if len(met) == len(cross) { // nothing new met: crossing every building met does not do
+			return nil
+		}
+		cross = met // met grows: a building crossed is met again
+	}
+	for i := 0; i < len(cross); {
+		without := slices.Delete(slices.Clone(cross), i, i+1)
+		if ok, _ := reaches(without); ok {
+			cross = without
+		} else {
+			i++
+		}
+	}
+	return cross
 }
 
 // Apart says why no route joins buildings a and b, when the network is the cause: a is cut
@@ -190,18 +226,25 @@ func (s *Site) Apart(a, b string) (string, bool) {
 // returns the junctions it reached and, sorted, the other buildings whose entrances it reached.
 // The buildings in also are passed as if they allowed transit (what setting it would do).
 func (s *Site) search(from, hub string, also ...string) (reached, []string) {
+	return s.walk(from, hub, also, nil)
+}
+
+// walk is search, and the buildings in cross are crossed as a pathway drawn inside each
+// between its entrances would let a route cross it: passed, and their entrances linked.
+func (s *Site) walk(from, hub string, also, cross []string) (reached, []string) {
 	open := func(b string) bool {
 		t, ok := s.Net.TransitOf(b)
-		return b == from || b == hub || (ok && t.Allowed) || slices.Contains(also, b)
+		return b == from || b == hub || (ok && t.Allowed) || slices.Contains(also, b) || slices.Contains(cross, b)
 	}
 	adj := s.spanAdjacency()
-	// Entrances of from and of the hub are linked in a chain, as they are listed.
+	// Entrances of from, of the hub and of the buildings crossed are linked in a chain, as
+	// they are listed.
 	ends := map[int][]int{}
 	both := []string{from}
 	if hub != from {
 		both = append(both, hub)
 	}
-	for _, b := range both {
+	for _, b := range append(both, cross...) {
 		es := s.Net.EntrancesOf(b)
 		for i := 1; i < len(es); i++ {
 			x, y := s.junction[es[i-1].Junction], s.junction[es[i].Junction]

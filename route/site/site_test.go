@@ -252,19 +252,24 @@ func TestPlenumRoute(t *testing.T) {
 // at (150, 0), where handhole HH is; C is joined only by duct DC from inside B to inside C;
 // island I's duct DI ends 1 m short of S's end. DC starts at x = dcFromX, inside B: at 150
 // where LB ends (the two meet at one point inside B), or elsewhere in B (they do not).
-func factsCampus(t *testing.T, dcFromX float64) *site.Site {
-	t.Helper()
-	duct := func(id string, pts ...float64) string {
-		var c []string
-		for i := 0; i+1 < len(pts); i += 2 {
-			c = append(c, fmt.Sprintf("[%.7f,%.7f]", testsite.X(pts[i]), testsite.Y(pts[i+1])))
-		}
-		return fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":%q,"type":"duct"},"geometry":{"type":"LineString","coordinates":[%s]}}`, id, strings.Join(c, ","))
+// factsDuct is a duct feature id through the points x0, y0, x1, y1, … (metres, testsite.X and Y).
+func factsDuct(id string, pts ...float64) string {
+	var c []string
+	for i := 0; i+1 < len(pts); i += 2 {
+		c = append(c, fmt.Sprintf("[%.7f,%.7f]", testsite.X(pts[i]), testsite.Y(pts[i+1])))
 	}
+	return fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":%q,"type":"duct"},"geometry":{"type":"LineString","coordinates":[%s]}}`, id, strings.Join(c, ","))
+}
+
+// factsCampus is the campus of TestSiteFacts, with the features extra besides.
+func factsCampus(t *testing.T, dcFromX float64, extra ...string) *site.Site {
+	t.Helper()
+	duct := factsDuct
 	f := []string{testsite.Box("A", "mc", 50, 25), testsite.Box("B", "", 150, 25), testsite.Box("C", "", 250, 25), testsite.Box("I", "", 400, 25),
 		duct("S", 0, 0, 50, 0, 150, 0, 300, 0), duct("LA", 50, 0, 50, 20), duct("LB", 150, 0, 150, 20),
 		duct("DC", dcFromX, 20, 245, 20), duct("DI", 400, 20, 400, 0, 301, 0),
 		fmt.Sprintf(`{"type":"Feature","properties":{"kind":"structure","id":"HH","type":"handhole"},"geometry":{"type":"Point","coordinates":[%.7f,%.7f]}}`, testsite.X(150), testsite.Y(0))}
+	f = append(f, extra...)
 	c, err := geo.Parse("facts.geojson", []byte(`{"type":"FeatureCollection","features":[`+strings.Join(f, ",")+`]}`))
 	if err != nil {
 		t.Fatal(err)
@@ -377,5 +382,37 @@ func TestGraphDistancesFromSeveral(t *testing.T) {
 		if math.Abs(got[n]-want) > 1e-9 {
 			t.Errorf("node %s: got %.3f m, want %.3f m", g.Junction(int64(n)), got[n], want)
 		}
+	}
+}
+
+// TestThroughNamesOnlyInTheWay: the buildings a reason says a route must cross are those in
+// its way, not every building the search meets: D, at the end of a spur off C's duct, is met
+// by the search from C and is in nobody's way; G reaches A through E and then B, both named.
+// A route crosses a building only along a pathway inside it; which buildings are in the way
+// is common practice, no published source.
+func TestThroughNamesOnlyInTheWay(t *testing.T) {
+	t.Parallel()
+	spur := []string{testsite.Box("D", "", 200, 80), factsDuct("DD", 200, 20, 200, 72)}
+	row := []string{testsite.Box("E", "", 200, 140), testsite.Box("G", "", 300, 140),
+		factsDuct("GE", 295, 140, 205, 140), factsDuct("EB", 195, 135, 155, 30)}
+	cases := []struct {
+		name     string
+		extra    []string
+		building string
+		want     string
+	}{
+		{"spur building met, not in the way", spur, "C", "building C reaches A only through B: "},
+		{"two buildings in a row", append(slices.Clone(spur), row...), "G", "building G reaches A only through B, E: "},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			s := factsCampus(t, 155, tc.extra...)
+			if got := s.ThroughOnly("A"); !slices.Contains(got, tc.building) {
+				t.Errorf("%s: reached only through another building: %q, want %s among them", tc.name, got, tc.building)
+			}
+			if got := s.Through(tc.building, "A"); !strings.HasPrefix(got, tc.want) {
+				t.Errorf("%s: through reason:\n got %s\nwant %s…", tc.name, got, tc.want)
+			}
+		})
 	}
 }

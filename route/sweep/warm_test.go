@@ -234,7 +234,7 @@ func TestResumeOutputsPastCap(t *testing.T) {
 // scenario an objective within 2.5 % of the other order's (measured: 1.2 % and 2.0 %, a plan
 // started from another scenario's being cheaper than the base's from scratch), and in each
 // order, as cold, every scenario's 10G plan costs at least its 1G plan (the same campus with
-// dearer optics). With warm solves kicked again from the base's kicked plan, a 10G scenario
+// dearer optics) less that noise (1G's shorter reach constrains its search). With warm solves kicked again from the base's kicked plan, a 10G scenario
 // came out 0.5 % cheaper than its cold 1G base (and the orders 1.6–2.4 % apart). The
 // tolerance is this project's measurement, not a published figure.
 func TestWarmBaseOrder(t *testing.T) {
@@ -286,10 +286,15 @@ func TestWarmBaseOrder(t *testing.T) {
 			t.Errorf("%s: %d cents with the base t0, 1G; %d with the base t1, 10G: more than 2.5 %% apart", id, fwd, rev)
 		}
 	}
+	// 1000BASE-LX reaches a 3.6 km channel of outside plant here (its budget less the repair
+	// splices allowed per km), 10GBASE-ER about 12 km: the 1G search keeps its routes within
+	// a reach the 10G search does not have, so the two differ by more than the optics and a
+	// 10G plan may come out cheaper by the search's noise (2.5 %, as between the orders:
+	// measured 1.7 %, cold, trench ×3), never by more.
 	for name, obj := range objectives {
 		for _, book := range []string{"prices-t0-c0", "prices-t1-c0"} {
-			if g1, g10 := obj[book+"-1g"], obj[book+"-10g"]; g10 < g1 || g1 == 0 {
-				t.Errorf("%s, %s: 10G plan %d cents, 1G plan %d: dearer optics came out cheaper", name, book, g10, g1)
+			if g1, g10 := obj[book+"-1g"], obj[book+"-10g"]; float64(g10) < 0.975*float64(g1) || g1 == 0 {
+				t.Errorf("%s, %s: 10G plan %d cents, 1G plan %d: dearer optics came out cheaper by more than the search's noise", name, book, g10, g1)
 			}
 		}
 	}
