@@ -3,43 +3,45 @@ package optimize
 import (
 	"math"
 	"slices"
+
+	"spanwright/media/install"
 )
 
 // NFPA 70 Chapter 9 Table 1: the share of a conduit's internal cross-section that its cables may
-// fill (seen).
+// fill (seen), as fractions of the percentages media/install holds.
 const (
-	FillOneCable   = 0.53 // one cable
-	FillTwoCables  = 0.31 // two cables
-	FillMoreCables = 0.40 // three or more cables
+	FillOneCable   = install.FillOneCablePct / 100      // one cable
+	FillTwoCables  = install.FillTwoCablesPct / 100     // two cables
+	FillMoreCables = install.FillOverTwoCablesPct / 100 // three or more cables
 )
 
-// FillLimit returns the NFPA 70 Chapter 9 Table 1 fill fraction for n cables in one duct.
-func FillLimit(n int) float64 {
-	switch {
-	case n <= 1:
-		return FillOneCable
-	case n == 2:
-		return FillTwoCables
-	}
-	return FillMoreCables
-}
+// FillLimit returns the NFPA 70 Chapter 9 Table 1 fill fraction for n cables in one duct
+// (install.AllowedFillPct); n <= 1 is one cable.
+func FillLimit(n int) float64 { return install.AllowedFillPct(max(n, 1)) / 100 }
 
-// ductPack is the state of first-fit packing of cables into ducts of one diameter. A max
-// segment tree over the ducts' free room finds the first duct that takes a cable in
-// O(log ducts), which matters when thousands of cables share a duct bank.
+// ductPack is the state of first-fit packing of cables into ducts of one diameter, each duct
+// taking a cable by install.Load.Takes (fill and the jam check for a third cable), the rule
+// the bill's duct fill check packs by. A max segment tree over the ducts' free area finds the
+// first duct with room for a cable in O(log ducts), which matters when thousands of cables
+// share a duct bank; the duct it finds is then asked Takes, and the search goes on past a duct
+// that refuses (a third cable that would jam).
 type ductPack struct {
-	areaMM2 float64   // one duct's internal area
-	count   []int     // cables per duct
-	used    []float64 // cable area per duct, mm²
-	seg     []float64 // seg[1] is the root; leaves seg[size+j] hold duct j's room
-	size    int
+	ductIDMM float64
+	areaMM2  float64        // one duct's internal area
+	load     []install.Load // per duct: what it holds
+	seg      []float64      // seg[1] is the root; leaves seg[size+j] hold duct j's room
+	size     int
 }
 
-func (p *ductPack) room(j int) float64 { return FillLimit(p.count[j]+1)*p.areaMM2 - p.used[j] }
+// room is the area duct j has for one more cable by fill alone: an upper bound of what Takes
+// allows.
+func (p *ductPack) room(j int) float64 {
+	return FillLimit(p.load[j].Cables+1)*p.areaMM2 - p.load[j].UsedMM2
+}
 
-// reset empties the packing for ducts of area areaMM2.
-func (p *ductPack) reset(areaMM2 float64) {
-	p.areaMM2, p.count, p.used = areaMM2, p.count[:0], p.used[:0]
+// reset empties the packing for ducts of internal diameter ductIDMM.
+func (p *ductPack) reset(ductIDMM float64) {
+	p.ductIDMM, p.areaMM2, p.load = ductIDMM, circleMM2(ductIDMM), p.load[:0]
 	for i := range p.seg {
 		p.seg[i] = math.Inf(-1)
 	}
@@ -67,7 +69,7 @@ func (p *ductPack) grow() {
 		p.seg[i] = math.Inf(-1)
 	}
 	p.size = size
-	for j := range p.count {
+	for j := range p.load {
 		p.seg[size+j] = p.room(j)
 	}
 	for i := size - 1; i >= 1; i-- {
@@ -78,50 +80,72 @@ func (p *ductPack) grow() {
 	}
 }
 
-func circleMM2(dMM float64) float64 { return math.Pi / 4 * dMM * dMM }
+func circleMM2(dMM float64) float64 { return install.CableAreaMM2(dMM) }
 
-// place puts a cable of area a into the first duct that stays within FillLimit, opening a new
-// duct when none does; it returns false when the cable does not fit even an empty duct.
-func (p *ductPack) place(a float64) bool {
-	const eps = 1e-9
-	if p.size > 0 && p.seg[1]+eps >= a {
-		i := 1
-		for i < p.size {
-			if p.seg[2*i]+eps >= a {
-				i = 2 * i
-			} else {
-				i = 2*i + 1
-			}
-		}
-		j := i - p.size
-		p.count[j]++
-		p.used[j] += a
-		p.update(j)
-		return true
+// first returns the lowest duct index >= from whose room is at least a, or -1; node i of the
+// tree covers ducts [lo, hi).
+func (p *ductPack) first(i, lo, hi, from int, a float64) int {
+	if hi <= from || p.seg[i] < a {
+		return -1
 	}
-	if a > FillOneCable*p.areaMM2+eps {
+	if hi-lo == 1 {
+		return lo
+	}
+	mid := (lo + hi) / 2
+	if j := p.first(2*i, lo, mid, from, a); j >= 0 {
+		return j
+	}
+	return p.first(2*i+1, mid, hi, from, a)
+}
+
+// place puts a cable of outside diameter odMM into the first duct that takes it
+// (install.Load.Takes), opening a new duct when none does; it returns false when the cable
+// does not fit even an empty duct.
+func (p *ductPack) place(odMM float64) bool {
+	const eps = 1e-9 // the tree screens by area; Takes decides
+	a := circleMM2(odMM) - eps
+	for from := 0; p.size > 0; {
+		j := p.first(1, 0, p.size, from, a)
+		if j < 0 {
+			break
+		}
+		if p.load[j].Takes(p.ductIDMM, odMM) {
+			p.load[j].Add(odMM)
+			p.update(j)
+			return true
+		}
+		from = j + 1
+	}
+	if !(install.Load{}).Takes(p.ductIDMM, odMM) {
 		return false
 	}
-	p.count = append(p.count, 1)
-	p.used = append(p.used, a)
-	if len(p.count) > p.size {
-		p.grow()
-	} else {
-		p.update(len(p.count) - 1)
-	}
+	p.open(odMM)
 	return true
 }
 
+// open adds a duct holding one cable of outside diameter odMM.
+func (p *ductPack) open(odMM float64) {
+	var l install.Load
+	l.Add(odMM)
+	p.load = append(p.load, l)
+	if len(p.load) > p.size {
+		p.grow()
+	} else {
+		p.update(len(p.load) - 1)
+	}
+}
+
 // NFPAFits reports whether cables of the given outside diameters (mm) fit in ducts ducts of
-// internal diameter ductIDMM, placing them first-fit in the given order and holding each duct to
-// the NFPA 70 Chapter 9 Table 1 fill for its cable count (53 % one, 31 % two, 40 % three or more).
-// First-fit in a fixed order is a packing rule, not an optimal bin packing: it may use a duct
-// more than the best arrangement would.
+// internal diameter ductIDMM, placing them first-fit in the given order by install.Load.Takes:
+// each duct held to the NFPA 70 Chapter 9 Table 1 fill for its cable count (53 % one, 31 % two,
+// 40 % three or more), and no third cable that would jam. First-fit in a fixed order is a
+// packing rule, not an optimal bin packing: it may use a duct more than the best arrangement
+// would. install.DuctBank.Pull places the same cables in the same ducts.
 func NFPAFits(ductIDMM float64, cableODsMM []float64, ducts int) bool {
 	var p ductPack
-	p.reset(circleMM2(ductIDMM))
+	p.reset(ductIDMM)
 	for _, od := range cableODsMM {
-		if !p.place(circleMM2(od)) || len(p.count) > ducts {
+		if !p.place(od) || len(p.load) > ducts {
 			return false
 		}
 	}
@@ -153,16 +177,16 @@ func (c *capacity) needed(e int, ods []float64, pack *ductPack) (added int, ok b
 		if pack != nil {
 			p = pack
 		}
-		p.reset(circleMM2(ed.DuctIDMM))
+		p.reset(ed.DuctIDMM)
 		for _, od := range ods {
 			if od <= 0 {
 				continue
 			}
-			if !p.place(math.Pi / 4 * od * od) {
+			if !p.place(od) {
 				return 0, false
 			}
 		}
-		added = max(0, len(p.count)-ed.Ducts)
+		added = max(0, len(p.load)-ed.Ducts)
 		return added, added <= maxAdd
 	}
 	for i := range ods {
@@ -181,15 +205,15 @@ func (c *capacity) needed(e int, ods []float64, pack *ductPack) (added int, ok b
 // total is the number of cables in all.
 func (c *capacity) extend(e int, from *packState, to *ductPack, more []float64, total int) (added int, ok bool) {
 	ed := &c.edges[e]
-	to.count = append(to.count[:0], from.count...)
-	to.used = append(to.used[:0], from.used...)
+	to.ductIDMM, to.areaMM2 = ed.DuctIDMM, circleMM2(ed.DuctIDMM)
+	to.load = append(to.load[:0], from.load...)
 	to.seg = append(to.seg[:0], from.seg...)
 	to.size = from.size
 	for _, od := range more {
 		if od <= 0 {
 			continue
 		}
-		if !to.place(math.Pi / 4 * od * od) {
+		if !to.place(od) {
 			return 0, false
 		}
 	}
@@ -197,7 +221,7 @@ func (c *capacity) extend(e int, from *packState, to *ductPack, more []float64, 
 	if ed.AddDuctPerMCents > 0 {
 		maxAdd = total
 	}
-	added = max(0, len(to.count)-ed.Ducts)
+	added = max(0, len(to.load)-ed.Ducts)
 	return added, added <= maxAdd
 }
 
@@ -219,10 +243,10 @@ func (c *capacity) prefixNeeds(e int, ods []float64) []int {
 	}
 	ed := &c.edges[e]
 	p := &c.pack
-	p.reset(circleMM2(ed.DuctIDMM))
+	p.reset(ed.DuctIDMM)
 	failed := false
 	for i, od := range ods {
-		if !failed && od > 0 && !p.place(math.Pi/4*od*od) {
+		if !failed && od > 0 && !p.place(od) {
 			failed = true // this prefix and every longer one cannot be pulled
 		}
 		if !failed {
@@ -230,7 +254,7 @@ func (c *capacity) prefixNeeds(e int, ods []float64) []int {
 			if ed.AddDuctPerMCents > 0 {
 				maxAdd = i + 1
 			}
-			if added := max(0, len(p.count)-ed.Ducts); added <= maxAdd {
+			if added := max(0, len(p.load)-ed.Ducts); added <= maxAdd {
 				prev = added
 			}
 		}
@@ -243,22 +267,15 @@ func (c *capacity) prefixNeeds(e int, ods []float64) []int {
 // packing first-fit in order, in mm².
 func (c *capacity) allowedArea(ductIDMM float64, ods []float64) (usedMM2, allowedMM2 float64) {
 	p := &c.pack
-	p.reset(circleMM2(ductIDMM))
+	p.reset(ductIDMM)
 	for _, od := range ods {
-		a := circleMM2(od)
-		usedMM2 += a
-		if od > 0 && !p.place(a) {
-			p.count = append(p.count, 1) // too wide for any duct: counted as its own
-			p.used = append(p.used, a)
-			if len(p.count) > p.size {
-				p.grow()
-			} else {
-				p.update(len(p.count) - 1)
-			}
+		usedMM2 += circleMM2(od)
+		if od > 0 && !p.place(od) {
+			p.open(od) // too wide for any duct: counted as its own
 		}
 	}
-	for _, n := range p.count {
-		allowedMM2 += FillLimit(n) * p.areaMM2
+	for _, l := range p.load {
+		allowedMM2 += FillLimit(l.Cables) * p.areaMM2
 	}
 	return usedMM2, allowedMM2
 }
