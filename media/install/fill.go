@@ -142,6 +142,17 @@ func (l Load) Takes(ductIDMM, odMM float64) bool {
 	return true
 }
 
+// MayJam reports whether the duct holds two cables of equal diameter (within JamEqualODTol),
+// so that Takes may refuse some third cable for the jam band: a duct that does not MayJam
+// takes any cable its fill allows.
+func (l Load) MayJam() bool {
+	if l.Cables != 2 {
+		return false
+	}
+	lo, hi := math.Min(l.FirstODsMM[0], l.FirstODsMM[1]), math.Max(l.FirstODsMM[0], l.FirstODsMM[1])
+	return (hi-lo)/hi <= JamEqualODTol
+}
+
 // Add records a cable of outside diameter odMM (mm) pulled into the duct.
 func (l *Load) Add(odMM float64) {
 	if l.Cables < len(l.FirstODsMM) {

@@ -20,30 +20,70 @@ const (
 func FillLimit(n int) float64 { return install.AllowedFillPct(max(n, 1)) / 100 }
 
 // ductPack is the state of first-fit packing of cables into ducts of one diameter, each duct
-// taking a cable by install.Load.Takes (fill and the jam check for a third cable), the rule
+// taking a cable by install.Load.Takes (fill, and the jam check for a third cable), the rule
 // the bill's duct fill check packs by. A max segment tree over the ducts' free area finds the
 // first duct with room for a cable in O(log ducts), which matters when thousands of cables
-// share a duct bank; the duct it finds is then asked Takes, and the search goes on past a duct
-// that refuses (a third cable that would jam).
+// share a duct bank. A duct that may jam a third cable (install.Load.MayJam: two cables of
+// one size) is kept out of the tree in a group of the ducts holding the same two cables: they
+// are alike, so one Takes answers for the group and its lowest duct is the one first fit
+// would try. Placing a cable is then O(log ducts + groups), however many ducts hold a pair
+// that refuses it (innerducts of one size, two to a duct, on a trunk).
 type ductPack struct {
 	ductIDMM float64
 	areaMM2  float64        // one duct's internal area
 	load     []install.Load // per duct: what it holds
 	seg      []float64      // seg[1] is the root; leaves seg[size+j] hold duct j's room
 	size     int
+	twos     []twoGroup // the ducts that may jam a third cable, by the two cables they hold
 }
 
-// room is the area duct j has for one more cable by fill alone: an upper bound of what Takes
-// allows.
+// twoGroup is the ducts holding the same two cables of one size (install.Load.MayJam).
+type twoGroup struct {
+	load  install.Load // what each of them holds
+	ducts []int32      // a min-heap of their indices
+}
+
+// room is the area duct j has for one more cable by fill alone (an upper bound of what Takes
+// allows), or -Inf for a duct that may jam a third cable: those are found through p.twos.
 func (p *ductPack) room(j int) float64 {
+	if p.load[j].MayJam() {
+		return math.Inf(-1)
+	}
 	return FillLimit(p.load[j].Cables+1)*p.areaMM2 - p.load[j].UsedMM2
+}
+
+// maxRoom is the most area any duct has for one more cable by fill alone; -Inf with no duct.
+func (p *ductPack) maxRoom() float64 {
+	m := math.Inf(-1)
+	if p.size > 0 {
+		m = p.seg[1]
+	}
+	for i := range p.twos {
+		if g := &p.twos[i]; len(g.ducts) > 0 {
+			m = max(m, FillLimit(3)*p.areaMM2-g.load.UsedMM2)
+		}
+	}
+	return m
 }
 
 // reset empties the packing for ducts of internal diameter ductIDMM.
 func (p *ductPack) reset(ductIDMM float64) {
-	p.ductIDMM, p.areaMM2, p.load = ductIDMM, circleMM2(ductIDMM), p.load[:0]
+	p.ductIDMM, p.areaMM2, p.load, p.twos = ductIDMM, circleMM2(ductIDMM), p.load[:0], p.twos[:0]
 	for i := range p.seg {
 		p.seg[i] = math.Inf(-1)
+	}
+}
+
+// copyFrom makes p the packing saved in s, for ducts of internal diameter ductIDMM.
+func (p *ductPack) copyFrom(s *packState, ductIDMM float64) {
+	p.ductIDMM, p.areaMM2 = ductIDMM, circleMM2(ductIDMM)
+	p.load = append(p.load[:0], s.load...)
+	p.seg = append(p.seg[:0], s.seg...)
+	p.size = s.size
+	p.twos = slices.Grow(p.twos[:0], len(s.twos))[:len(s.twos)]
+	for i := range s.twos {
+		p.twos[i].load = s.twos[i].load
+		p.twos[i].ducts = append(p.twos[i].ducts[:0], s.twos[i].ducts...)
 	}
 }
 
@@ -104,23 +144,59 @@ func (p *ductPack) first(i, lo, hi, from int, a float64) int {
 func (p *ductPack) place(odMM float64) bool {
 	const eps = 1e-9 // the tree screens by area; Takes decides
 	a := circleMM2(odMM) - eps
+	best, group := -1, -1
 	for from := 0; p.size > 0; {
 		j := p.first(1, 0, p.size, from, a)
 		if j < 0 {
 			break
 		}
 		if p.load[j].Takes(p.ductIDMM, odMM) {
-			p.load[j].Add(odMM)
-			p.update(j)
-			return true
+			best = j
+			break
 		}
-		from = j + 1
+		from = j + 1 // refused at the rounding edge of its fill
 	}
-	if !(install.Load{}).Takes(p.ductIDMM, odMM) {
-		return false
+	for i := range p.twos {
+		g := &p.twos[i]
+		if len(g.ducts) > 0 && (best < 0 || int(g.ducts[0]) < best) && g.load.Takes(p.ductIDMM, odMM) {
+			best, group = int(g.ducts[0]), i
+		}
 	}
-	p.open(odMM)
+	if best < 0 {
+		if !(install.Load{}).Takes(p.ductIDMM, odMM) {
+			return false
+		}
+		p.open(odMM)
+		return true
+	}
+	if group >= 0 {
+		heapPop(&p.twos[group].ducts)
+	}
+	p.load[best].Add(odMM)
+	p.joinTwos(best)
+	p.update(best)
 	return true
+}
+
+// joinTwos puts duct j into the group of its two cables when it may jam a third.
+func (p *ductPack) joinTwos(j int) {
+	l := p.load[j]
+	if !l.MayJam() {
+		return
+	}
+	for i := range p.twos {
+		if p.twos[i].load == l {
+			heapPush(&p.twos[i].ducts, int32(j))
+			return
+		}
+	}
+	if len(p.twos) < cap(p.twos) {
+		p.twos = p.twos[:len(p.twos)+1] // reuse the element's heap
+	} else {
+		p.twos = append(p.twos, twoGroup{})
+	}
+	g := &p.twos[len(p.twos)-1]
+	g.load, g.ducts = l, append(g.ducts[:0], int32(j))
 }
 
 // open adds a duct holding one cable of outside diameter odMM.
@@ -133,6 +209,43 @@ func (p *ductPack) open(odMM float64) {
 	} else {
 		p.update(len(p.load) - 1)
 	}
+}
+
+// heapPush adds j to the min-heap h.
+func heapPush(h *[]int32, j int32) {
+	*h = append(*h, j)
+	s := *h
+	for i := len(s) - 1; i > 0; {
+		up := (i - 1) / 2
+		if s[up] <= s[i] {
+			break
+		}
+		s[up], s[i] = s[i], s[up]
+		i = up
+	}
+}
+
+// heapPop removes the least element of the min-heap h.
+func heapPop(h *[]int32) {
+	s := *h
+	n := len(s) - 1
+	s[0] = s[n]
+	s = s[:n]
+	for i := 0; ; {
+		l, m := 2*i+1, i
+		if l < n && s[l] < s[m] {
+			m = l
+		}
+		if r := l + 1; r < n && s[r] < s[m] {
+			m = r
+		}
+		if m == i {
+			break
+		}
+		s[i], s[m] = s[m], s[i]
+		i = m
+	}
+	*h = s
 }
 
 // NFPAFits reports whether cables of the given outside diameters (mm) fit in ducts ducts of
@@ -205,10 +318,7 @@ func (c *capacity) needed(e int, ods []float64, pack *ductPack) (added int, ok b
 // total is the number of cables in all.
 func (c *capacity) extend(e int, from *packState, to *ductPack, more []float64, total int) (added int, ok bool) {
 	ed := &c.edges[e]
-	to.ductIDMM, to.areaMM2 = ed.DuctIDMM, circleMM2(ed.DuctIDMM)
-	to.load = append(to.load[:0], from.load...)
-	to.seg = append(to.seg[:0], from.seg...)
-	to.size = from.size
+	to.copyFrom(from, ed.DuctIDMM)
 	for _, od := range more {
 		if od <= 0 {
 			continue

@@ -134,6 +134,7 @@ func (sv *solver) od(d, o int) float64 { return sv.p.Demands[d].Options[o].Cable
 // packState is a saved packing and its outcome.
 type packState struct {
 	load  []install.Load
+	twos  []twoGroup
 	seg   []float64
 	size  int
 	added int
@@ -169,6 +170,7 @@ func (sv *solver) flush() {
 		swapWith := alt.valid && alt.h == st.hsh[e]
 		// Exchange the current packing with the saved one.
 		cur.load, alt.load = alt.load, cur.load
+		cur.twos, alt.twos = alt.twos, cur.twos
 		cur.seg, alt.seg = alt.seg, cur.seg
 		cur.size, alt.size = alt.size, cur.size
 		added, ok := alt.added, alt.ok
@@ -212,10 +214,7 @@ func (sv *solver) applyDucts(e, added int, ok bool) {
 	}
 	st.added[e] = added
 	pk := &st.packs[e]
-	st.free[e] = math.Inf(-1)
-	if pk.size > 0 {
-		st.free[e] = pk.seg[1]
-	}
+	st.free[e] = pk.maxRoom()
 	if len(pk.load) < sv.p.Edges[e].Ducts+added {
 		st.free[e] = max(st.free[e], FillOneCable*pk.areaMM2)
 	}
