@@ -149,7 +149,10 @@ func (l Load) MayJam() bool {
 	if l.Cables != 2 {
 		return false
 	}
-	lo, hi := math.Min(l.FirstODsMM[0], l.FirstODsMM[1]), math.Max(l.FirstODsMM[0], l.FirstODsMM[1])
+	lo, hi := l.FirstODsMM[0], l.FirstODsMM[1] // valid ODs, so no NaN to order
+	if lo > hi {
+		lo, hi = hi, lo
+	}
 	return (hi-lo)/hi <= JamEqualODTol
 }
 

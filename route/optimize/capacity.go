@@ -46,10 +46,11 @@ type twoGroup struct {
 // room is the area duct j has for one more cable by fill alone (an upper bound of what Takes
 // allows), or -Inf for a duct that may jam a third cable: those are found through p.twos.
 func (p *ductPack) room(j int) float64 {
-	if p.load[j].MayJam() {
+	l := &p.load[j]
+	if l.Cables == 2 && l.MayJam() {
 		return math.Inf(-1)
 	}
-	return FillLimit(p.load[j].Cables+1)*p.areaMM2 - p.load[j].UsedMM2
+	return FillLimit(l.Cables+1)*p.areaMM2 - l.UsedMM2
 }
 
 // maxRoom is the most area any duct has for one more cable by fill alone; -Inf with no duct.
@@ -122,6 +123,25 @@ func (p *ductPack) grow() {
 
 func circleMM2(dMM float64) float64 { return install.CableAreaMM2(dMM) }
 
+// firstFrom returns the lowest duct index >= from whose room is at least a, or -1.
+func (p *ductPack) firstFrom(from int, a float64) int {
+	if from > 0 {
+		return p.first(1, 0, p.size, from, a)
+	}
+	if p.seg[1] < a {
+		return -1
+	}
+	i := 1
+	for i < p.size {
+		if p.seg[2*i] >= a {
+			i = 2 * i
+		} else {
+			i = 2*i + 1
+		}
+	}
+	return i - p.size
+}
+
 // first returns the lowest duct index >= from whose room is at least a, or -1; node i of the
 // tree covers ducts [lo, hi).
 func (p *ductPack) first(i, lo, hi, from int, a float64) int {
@@ -146,7 +166,7 @@ func (p *ductPack) place(odMM float64) bool {
 	a := circleMM2(odMM) - eps
 	best, group := -1, -1
 	for from := 0; p.size > 0; {
-		j := p.first(1, 0, p.size, from, a)
+		j := p.firstFrom(from, a)
 		if j < 0 {
 			break
 		}
@@ -180,12 +200,12 @@ func (p *ductPack) place(odMM float64) bool {
 
 // joinTwos puts duct j into the group of its two cables when it may jam a third.
 func (p *ductPack) joinTwos(j int) {
-	l := p.load[j]
-	if !l.MayJam() {
+	l := &p.load[j]
+	if l.Cables != 2 || !l.MayJam() {
 		return
 	}
 	for i := range p.twos {
-		if p.twos[i].load == l {
+		if p.twos[i].load == *l {
 			heapPush(&p.twos[i].ducts, int32(j))
 			return
 		}
@@ -196,7 +216,7 @@ func (p *ductPack) joinTwos(j int) {
 		p.twos = append(p.twos, twoGroup{})
 	}
 	g := &p.twos[len(p.twos)-1]
-	g.load, g.ducts = l, append(g.ducts[:0], int32(j))
+	g.load, g.ducts = *l, append(g.ducts[:0], int32(j))
 }
 
 // open adds a duct holding one cable of outside diameter odMM.
