@@ -15,10 +15,10 @@ const (
 	FillOverTwoCablesPct = 40.0 // three or more cables
 )
 
-// Jam check for three cables in one duct. NFPA 70 Chapter 9 (Informative Annex note, seen):
-// three cables whose duct-ID-to-cable-OD ratio lies between 2.8 and 3.2 can jam, one cable
-// wedging between the other two. Many pulling guides first multiply D/d by 1.05 because a duct
-// goes oval in a bend (common practice, no published source).
+// Jam check for three cables in one duct. NFPA 70 Chapter 9 Table 1, Informational Note
+// No. 2 (seen): three cables whose duct-ID-to-cable-OD ratio lies between 2.8 and 3.2 can jam,
+// one cable wedging between the other two. Many pulling guides first multiply D/d by 1.05
+// because a duct goes oval in a bend (common practice, no published source).
 const (
 	JamRatioLowest  = 2.8  // lowest jam-prone 1.05·D/d, inclusive
 	JamRatioHighest = 3.2  // highest jam-prone 1.05·D/d, inclusive

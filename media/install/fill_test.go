@@ -123,8 +123,8 @@ func TestCheckFill(t *testing.T) {
 func TestJam(t *testing.T) {
 	t.Parallel()
 	const id = 100.0
-	// NFPA 70 Chapter 9 Informative Annex note (seen): three cables with 1.05·D/d in 2.8..3.2
-	// can jam; the 1.05 bend allowance is common practice, no published source.
+	// NFPA 70 Chapter 9 Table 1 Informational Note No. 2 (seen): three cables with 1.05·D/d in
+	// 2.8..3.2 can jam; the 1.05 bend allowance is common practice, no published source.
 	cases := []struct {
 		name      string
 		ratio     float64 // 1.05·D/d
@@ -319,10 +319,10 @@ func TestFillBadInput(t *testing.T) {
 	}
 }
 
-// TestLoadTakes checks the one packing rule cable by cable: NFPA 70 Chapter 9 Table 1 (seen)
-// holds one cable to 53 %, two to 31 %, three or more to 40 % of the duct's area, and a third
-// cable of the same size (spread within 5 %, common practice, no published source) is refused
-// when 1.05·D/d lies in 2.8–3.2 (NFPA 70 Chapter 9 informative note, seen). MayJam says which
+// TestLoadTakes checks the one packing rule cable by cable: NFPA 70 Chapter 9 Table 1 (seen) holds
+// one cable to 53 %, two to 31 %, three or more to 40 % of the duct's area, and a third cable of
+// the same size (spread within 5 %, common practice, no published source) is refused when 1.05·D/d
+// lies in 2.8–3.2 (NFPA 70 Chapter 9 Table 1 Informational Note No. 2, seen). MayJam says which
 // ducts Takes may refuse for the jam alone.
 func TestLoadTakes(t *testing.T) {
 	t.Parallel()

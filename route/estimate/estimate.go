@@ -128,7 +128,7 @@ func (p PullPoint) String() string { return p.Text(MetresText) }
 
 // DuctFill is the fill of one duct of a span (NFPA 70 Chapter 9 Table 1) and, for three
 // cables of equal diameter, its jam ratio 1.05·D/d, jam-prone from 2.8 to 3.2 (NFPA 70
-// Chapter 9 informative note, seen).
+// Chapter 9 Table 1 Informational Note No. 2, seen).
 type DuctFill struct {
 	Span, PathwayID string
 	Duct            int  // 1-based

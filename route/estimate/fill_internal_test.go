@@ -11,8 +11,8 @@ import (
 	"testing"
 )
 
-// TestDuctFillJamBand: three equal cables in one spare duct. NFPA 70 Chapter 9 (seen):
-// 40 % fill for three or more; the 1.05·D/d jam band 2.8-3.2 (informative note, seen).
+// TestDuctFillJamBand: three equal cables in one spare duct. NFPA 70 Chapter 9 (seen): 40 % fill
+// for three or more; the 1.05·D/d jam band 2.8-3.2 (Table 1 Informational Note No. 2, seen).
 func TestDuctFillJamBand(t *testing.T) {
 	t.Parallel()
 	const od = 10.5

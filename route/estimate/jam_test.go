@@ -17,8 +17,8 @@ import (
 // innerduct33 puts every cable in a duct into a 33/27 mm innerduct (the README's suggested
 // innerduct), so the duct holds occupants of one known diameter: in a 100 mm duct three of them
 // fill 3·33²/100² = 32.7 % (within 40 %, NFPA 70 Chapter 9 Table 1, seen) but their jam ratio
-// 1.05·100/33 = 3.18 lies in the jam band 2.8–3.2 (NFPA 70 Chapter 9 informative note, seen;
-// the 1.05 is common practice, no published source), so a duct takes two, not three.
+// 1.05·100/33 = 3.18 lies in the jam band 2.8–3.2 (NFPA 70 Chapter 9 Table 1 Informational Note No.
+// 2, seen; the 1.05 is common practice, no published source), so a duct takes two, not three.
 func innerduct33(p *plan.Plan) { p.Design.InnerductODMM, p.Design.InnerductIDMM = 33, 27 }
 
 // fillHolds checks the property that makes the fill check and the bill agree: on every span

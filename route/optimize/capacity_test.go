@@ -9,11 +9,11 @@ import (
 	"spanwright/media/install"
 )
 
-// TestNFPAFits checks the default fill rule at the edges of NFPA 70 Chapter 9 Table 1 (seen):
-// 53 % of a duct's area for one cable, 31 % for two, 40 % for three or more. For a 100 mm duct
-// the largest single cable is 100·√0.53 = 72.80 mm, two equal cables 100·√0.155 = 39.37 mm,
-// three equal cables 100·√(0.4/3) = 36.51 mm (computed). Three equal cables of 32.8 to 37.5 mm
-// are jam-prone in a 100 mm duct (1.05·D/d from 2.8 to 3.2, NFPA 70 Chapter 9 informative note,
+// TestNFPAFits checks the default fill rule at the edges of NFPA 70 Chapter 9 Table 1 (seen): 53 %
+// of a duct's area for one cable, 31 % for two, 40 % for three or more. For a 100 mm duct the
+// largest single cable is 100·√0.53 = 72.80 mm, two equal cables 100·√0.155 = 39.37 mm, three equal
+// cables 100·√(0.4/3) = 36.51 mm (computed). Three equal cables of 32.8 to 37.5 mm are jam-prone in
+// a 100 mm duct (1.05·D/d from 2.8 to 3.2, NFPA 70 Chapter 9 Table 1 Informational Note No. 2,
 // seen; the 1.05 is common practice, no published source), so three unequal ones test 40 %.
 func TestNFPAFits(t *testing.T) {
 	t.Parallel()

@@ -350,9 +350,10 @@ func TestCampusPlansValid(t *testing.T) {
 				q = *withTransitCharges(p, 3)
 			}
 			if jam {
-				// 28 mm ducts: three 9.5 mm cables are in the jam band (1.05·28/9.5 = 3.09,
-				// NFPA 70 Chapter 9 informative note, seen; the 1.05 common practice, no published
-				// source), so a duct takes two of them though 40 % of its area would take three.
+				// 28 mm ducts: three 9.5 mm cables are in the jam band (1.05·28/9.5 = 3.09, NFPA 70
+				// Chapter 9 Table 1 Informational Note No. 2, seen; the 1.05 common practice, no
+				// published source), so a duct takes two of them though 40 % of its area would take
+				// three.
 				q.Edges = slices.Clone(p.Edges)
 				for i := range q.Edges {
 					if q.Edges[i].DuctIDMM > 0 {

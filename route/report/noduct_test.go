@@ -20,14 +20,14 @@ import (
 	"spanwright/route/workbook"
 )
 
-// TestNoDuctShownEverywhere: new duct T, one 100 mm duct (design.new_ducts 1), carries the
-// 33 mm innerducts of three links. Three such innerducts fill 32.7 % (within 40 %, NFPA 70
-// Chapter 9 Table 1, seen) but their jam ratio 1.05·100/33 = 3.18 lies in the jam band 2.8–3.2
-// (NFPA 70 Chapter 9 informative note, seen; the 1.05 is common practice, no published
+// TestNoDuctShownEverywhere: new duct T, one 100 mm duct (design.new_ducts 1), carries the 33 mm
+// innerducts of three links. Three such innerducts fill 32.7 % (within 40 %, NFPA 70 Chapter 9
+// Table 1, seen) but their jam ratio 1.05·100/33 = 3.18 lies in the jam band 2.8–3.2 (NFPA 70
+// Chapter 9 Table 1 Informational Note No. 2, seen; the 1.05 is common practice, no published
 // source), so the duct takes two and the third fits no duct. The optimizer does not limit new
-// construction, so the plan stands; every output then shows T over its limit: the fill sheet
-// (a row of its own, ok false), plan.gpkg (fill_ok 0), the report (listed, with a badge) and
-// the terminal (a duct fill line).
+// construction, so the plan stands; every output then shows T over its limit: the fill sheet (a row
+// of its own, ok false), plan.gpkg (fill_ok 0), the report (listed, with a badge) and the terminal
+// (a duct fill line).
 func TestNoDuctShownEverywhere(t *testing.T) {
 	t.Parallel()
 	r, err := testplan.PullSolveJSON(t, testsite.FanCampus(100, 0, true), func(p *plan.Plan) {
