@@ -21,7 +21,6 @@ var floors = map[string]int{
 	"geo/crs":                              0,
 	"geo/gpkgout":                          0,
 	"media/install":                        0,
-	"route/optimize":                       0,
 	"route/escape":                         0,
 	"route/fileset":                        0,
 	"route/starter":                        0,
@@ -30,6 +29,7 @@ var floors = map[string]int{
 	"route/internal/campusgen/campusfiles": 1,
 	"internal/pgtest":                      0, // tests only: a throwaway PostgreSQL with PostGIS
 	"geo":                                  1,
+	"route/optimize":                       1, // duct capacity packs by media/install
 	"geo/gpkg":                             2,
 	"geo/postgis":                          2,
 	"route/workbook":                       1,

@@ -15,10 +15,10 @@ const (
 	FillOverTwoCablesPct = 40.0 // three or more cables
 )
 
-// Jam check for three cables in one duct. NFPA 70 Chapter 9 (Informative Annex note, seen):
-// three cables whose duct-ID-to-cable-OD ratio lies between 2.8 and 3.2 can jam, one cable
-// wedging between the other two. Many pulling guides first multiply D/d by 1.05 because a duct
-// goes oval in a bend (common practice, no published source).
+// Jam check for three cables in one duct. NFPA 70 Chapter 9 Table 1, Informational Note
+// No. 2 (seen): three cables whose duct-ID-to-cable-OD ratio lies between 2.8 and 3.2 can jam,
+// one cable wedging between the other two. Many pulling guides first multiply D/d by 1.05
+// because a duct goes oval in a bend (common practice, no published source).
 const (
 	JamRatioLowest  = 2.8  // lowest jam-prone 1.05·D/d, inclusive
 	JamRatioHighest = 3.2  // highest jam-prone 1.05·D/d, inclusive
@@ -94,26 +94,89 @@ func CheckFill(ductIDMM float64, cableODsMM []float64) Fill {
 	f.Pct = f.UsedMM2 / area * 100
 	f.OK = f.UsedMM2 <= f.AllowedMM2
 	if len(cableODsMM) == 3 {
-		lo := math.Min(cableODsMM[0], math.Min(cableODsMM[1], cableODsMM[2]))
-		hi := math.Max(cableODsMM[0], math.Max(cableODsMM[1], cableODsMM[2]))
-		if (hi-lo)/hi <= JamEqualODTol {
-			mean := (cableODsMM[0] + cableODsMM[1] + cableODsMM[2]) / 3
-			f.JamRatio = JamBendFactor * ductIDMM / mean
-			f.JamRisk = f.JamRatio >= JamRatioLowest && f.JamRatio <= JamRatioHighest
-		}
+		f.JamRatio, f.JamRisk = Jam(ductIDMM, cableODsMM[0], cableODsMM[1], cableODsMM[2])
 	}
 	return f
 }
 
-// FitsDuct reports whether one more cable of outside diameter cableODMM (mm) fits a duct of
-// internal diameter ductIDMM (mm) that already holds cables of the given ODs: the fill with the
-// new cable is within NFPA 70 Chapter 9 Table 1 and there is no jam risk. It is false for
+// Jam returns the jam ratio JamBendFactor·ductIDMM/mean OD of three cables of outside
+// diameters a, b and c (mm) in one duct of internal diameter ductIDMM (mm), and whether it lies
+// in [JamRatioLowest, JamRatioHighest]. The check applies only to cables of equal diameter
+// (spread within JamEqualODTol); otherwise it returns 0, false.
+func Jam(ductIDMM, a, b, c float64) (ratio float64, risk bool) {
+	lo, hi := math.Min(a, math.Min(b, c)), math.Max(a, math.Max(b, c))
+	if (hi-lo)/hi > JamEqualODTol {
+		return 0, false
+	}
+	ratio = JamBendFactor * ductIDMM / ((a + b + c) / 3)
+	return ratio, ratio >= JamRatioLowest && ratio <= JamRatioHighest
+}
+
+// Load is what one duct holds as cables are pulled into it one at a time: how many, their
+// areas summed in pull order (as CheckFill sums them), and the first two cables' outside
+// diameters, which the jam check of a third needs. The zero Load is an empty duct.
+type Load struct {
+	Cables     int
+	UsedMM2    float64
+	FirstODsMM [2]float64
+}
+
+// Takes reports whether a cable of outside diameter odMM (mm) may be pulled into a duct of
+// internal diameter ductIDMM (mm) holding l: with it the duct stays within the NFPA 70 Chapter 9
+// Table 1 fill for its new cable count, and, as the third cable, it makes no jam-prone
+// trio (Jam). It is the one rule that decides whether a cable goes into a duct: the bill's
+// fill check (DuctBank) and the optimizer's duct capacity both pack with it. It is false for
 // invalid input.
+func (l Load) Takes(ductIDMM, odMM float64) bool {
+	if !finite(ductIDMM) || ductIDMM <= 0 || !finite(odMM) || odMM <= 0 {
+		return false
+	}
+	if l.UsedMM2+CableAreaMM2(odMM) > AllowedFillPct(l.Cables+1)/100*DuctAreaMM2(ductIDMM) {
+		return false
+	}
+	if l.Cables == 2 {
+		if _, risk := Jam(ductIDMM, l.FirstODsMM[0], l.FirstODsMM[1], odMM); risk {
+			return false
+		}
+	}
+	return true
+}
+
+// MayJam reports whether the duct holds two cables of equal diameter (within JamEqualODTol),
+// so that Takes may refuse some third cable for the jam band: a duct that does not MayJam
+// takes any cable its fill allows.
+func (l Load) MayJam() bool {
+	if l.Cables != 2 {
+		return false
+	}
+	lo, hi := l.FirstODsMM[0], l.FirstODsMM[1] // valid ODs, so no NaN to order
+	if lo > hi {
+		lo, hi = hi, lo
+	}
+	return (hi-lo)/hi <= JamEqualODTol
+}
+
+// Add records a cable of outside diameter odMM (mm) pulled into the duct.
+func (l *Load) Add(odMM float64) {
+	if l.Cables < len(l.FirstODsMM) {
+		l.FirstODsMM[l.Cables] = odMM
+	}
+	l.Cables++
+	l.UsedMM2 += CableAreaMM2(odMM)
+}
+
+// FitsDuct reports whether one more cable of outside diameter cableODMM (mm) fits a duct of
+// internal diameter ductIDMM (mm) that already holds cables of the given ODs, pulled in that
+// order (Load.Takes). It is false for invalid input.
 func FitsDuct(ductIDMM, cableODMM float64, existingODsMM []float64) bool {
-	ods := make([]float64, 0, len(existingODsMM)+1)
-	ods = append(append(ods, existingODsMM...), cableODMM)
-	f := CheckFill(ductIDMM, ods)
-	return f.OK && !f.JamRisk
+	var l Load
+	for _, od := range existingODsMM {
+		if !finite(od) || od <= 0 {
+			return false
+		}
+		l.Add(od)
+	}
+	return l.Takes(ductIDMM, cableODMM)
 }
 
 // MaxBankDucts is the most ducts a DuctBank may have; more is taken as an input error.
@@ -139,17 +202,40 @@ type Assignment struct {
 }
 
 // Assign packs cables of the given outside diameters (mm) into the bank's ducts, first fit
-// decreasing: cables are taken largest OD first (equal ODs in input order) and each goes into
-// the lowest-numbered duct that FitsDuct accepts given the cables already placed there. A cable
-// no duct accepts is left unplaced and packing continues with the next one.
+// decreasing: cables are taken largest OD first (equal ODs in input order) and placed as Pull
+// places them. Because cables are sorted first, the result does not depend on the order of the
+// input. Invalid input gives OK false and a non-nil Err; it never panics. Time
+// O(n log n + n·Ducts) for n cables.
+func (b DuctBank) Assign(cableODsMM []float64) Assignment {
+	order := make([]int, len(cableODsMM))
+	for i := range order {
+		order[i] = i
+	}
+	sort.SliceStable(order, func(x, y int) bool { return cableODsMM[order[x]] > cableODsMM[order[y]] })
+	return b.pack(cableODsMM, order)
+}
+
+// Pull packs cables of the given outside diameters (mm) into the bank's ducts in the order
+// given (the order they are pulled), first fit: each goes into the lowest-numbered duct whose
+// Load takes it (Load.Takes) given the cables already placed there. A cable no duct takes is
+// left unplaced and packing goes on with the next one. This is how the optimizer packs a duct
+// bank (route/optimize), so with the optimizer's order and duct count it places what the
+// optimizer placed.
 //
 // Every duct is therefore within fill and free of jam risk after every placement, not only at
 // the end; a third cable may be refused where a fourth would have restored compliance (two
-// cables are held to 31 %, three to 40 %). Because cables are sorted first, the result does not
-// depend on the order of the input, so a router may ask again with each new cable appended.
-// Invalid input gives OK false and a non-nil Err; it never panics. Time O(n log n + n·Ducts)
-// for n cables.
-func (b DuctBank) Assign(cableODsMM []float64) Assignment {
+// cables are held to 31 %, three to 40 %). Invalid input gives OK false and a non-nil Err; it
+// never panics. Time O(n·Ducts) for n cables.
+func (b DuctBank) Pull(cableODsMM []float64) Assignment {
+	order := make([]int, len(cableODsMM))
+	for i := range order {
+		order[i] = i
+	}
+	return b.pack(cableODsMM, order)
+}
+
+// pack places the cables first fit, taking them in the given order of their indices.
+func (b DuctBank) pack(cableODsMM []float64, order []int) Assignment {
 	a := Assignment{DuctOf: make([]int, len(cableODsMM))}
 	var errs ErrorList
 	if b.Ducts < 0 || b.Ducts > MaxBankDucts {
@@ -166,21 +252,14 @@ func (b DuctBank) Assign(cableODsMM []float64) Assignment {
 		a.Unplaced = len(cableODsMM)
 		return a
 	}
-
-	order := make([]int, len(cableODsMM))
-	for i := range order {
-		order[i] = i
-	}
-	sort.SliceStable(order, func(x, y int) bool { return cableODsMM[order[x]] > cableODsMM[order[y]] })
-
 	held := make([][]float64, b.Ducts)
-	usedMM2 := make([]float64, b.Ducts) // summed in placement order, as CheckFill sums
+	loads := make([]Load, b.Ducts)
 	for _, c := range order {
 		od := cableODsMM[c]
-		for d := range held {
-			if b.accepts(held[d], usedMM2[d], od) {
+		for d := range loads {
+			if loads[d].Takes(b.IDMM, od) {
 				held[d] = append(held[d], od)
-				usedMM2[d] += CableAreaMM2(od)
+				loads[d].Add(od)
 				a.DuctOf[c] = d
 				break
 			}
@@ -195,14 +274,6 @@ func (b DuctBank) Assign(cableODsMM []float64) Assignment {
 	}
 	a.OK = a.Unplaced == 0
 	return a
-}
-
-// accepts is FitsDuct(b.IDMM, od, held) for a duct whose cables' areas sum to usedMM2.
-func (b DuctBank) accepts(held []float64, usedMM2, od float64) bool {
-	if len(held) == 2 {
-		return FitsDuct(b.IDMM, od, held)
-	}
-	return usedMM2+CableAreaMM2(od) <= AllowedFillPct(len(held)+1)/100*DuctAreaMM2(b.IDMM)
 }
 
 // Fits reports whether a cable of outside diameter odMM (mm) can join cables already assigned

@@ -123,8 +123,8 @@ func TestCheckFill(t *testing.T) {
 func TestJam(t *testing.T) {
 	t.Parallel()
 	const id = 100.0
-	// NFPA 70 Chapter 9 Informative Annex note (seen): three cables with 1.05·D/d in 2.8..3.2
-	// can jam; the 1.05 bend allowance is common practice, no published source.
+	// NFPA 70 Chapter 9 Table 1 Informational Note No. 2 (seen): three cables with 1.05·D/d in
+	// 2.8..3.2 can jam; the 1.05 bend allowance is common practice, no published source.
 	cases := []struct {
 		name      string
 		ratio     float64 // 1.05·D/d
@@ -316,5 +316,53 @@ func TestFillBadInput(t *testing.T) {
 	}
 	if got := a.Err.Error(); !strings.HasSuffix(got, "Ducts: want in [0, 1000], got -1 (and 1 more error)") {
 		t.Errorf("bad bank: error %q, want Ducts and one more", got)
+	}
+}
+
+// TestLoadTakes checks the one packing rule cable by cable: NFPA 70 Chapter 9 Table 1 (seen) holds
+// one cable to 53 %, two to 31 %, three or more to 40 % of the duct's area, and a third cable of
+// the same size (spread within 5 %, common practice, no published source) is refused when 1.05·D/d
+// lies in 2.8–3.2 (NFPA 70 Chapter 9 Table 1 Informational Note No. 2, seen). MayJam says which
+// ducts Takes may refuse for the jam alone.
+func TestLoadTakes(t *testing.T) {
+	t.Parallel()
+	load := func(ods ...float64) Load {
+		var l Load
+		for _, od := range ods {
+			l.Add(od)
+		}
+		return l
+	}
+	cases := []struct {
+		name   string
+		idMM   float64
+		held   []float64
+		odMM   float64
+		takes  bool
+		mayJam bool
+	}{
+		{"empty duct, 53 %", 100, nil, 72.8, true, false},               // 72.8² = 5299.8 of 5300 (computed)
+		{"empty duct, over 53 %", 100, nil, 72.9, false, false},         // 5314.4 of 5300 (computed)
+		{"second cable, 31 %", 100, []float64{39.3}, 39.3, true, false}, // 2·39.3² = 3089.0 of 3100 (computed)
+		{"second cable, over 31 %", 100, []float64{39.5}, 39.5, false, false},
+		{"third of one size in the band", 100, []float64{33, 33}, 33, false, true},   // 1.05·100/33 = 3.18
+		{"third of one size below the band", 100, []float64{25, 25}, 25, true, true}, // 4.2
+		{"third of another size", 100, []float64{33, 33}, 25, true, true},            // spread 24 %
+		{"third after an unequal pair", 100, []float64{33, 25}, 33, true, false},
+		{"three equal in a 29 mm duct", 29, []float64{10, 10}, 10, false, true}, // 1.05·29/10 = 3.05
+		{"fourth after a jam-free third", 100, []float64{33, 33, 25}, 25, true, false},
+		{"invalid cable", 100, nil, math.NaN(), false, false},
+	}
+	for _, tc := range cases {
+		l := load(tc.held...)
+		if got := l.Takes(tc.idMM, tc.odMM); got != tc.takes {
+			t.Errorf("%s: Takes got %v, want %v", tc.name, got, tc.takes)
+		}
+		if got := l.MayJam(); got != tc.mayJam {
+			t.Errorf("%s: MayJam got %v, want %v", tc.name, got, tc.mayJam)
+		}
+		if got := FitsDuct(tc.idMM, tc.odMM, tc.held); got != tc.takes {
+			t.Errorf("%s: FitsDuct got %v, want %v", tc.name, got, tc.takes)
+		}
 	}
 }

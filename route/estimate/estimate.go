@@ -128,7 +128,7 @@ func (p PullPoint) String() string { return p.Text(MetresText) }
 
 // DuctFill is the fill of one duct of a span (NFPA 70 Chapter 9 Table 1) and, for three
 // cables of equal diameter, its jam ratio 1.05·D/d, jam-prone from 2.8 to 3.2 (NFPA 70
-// Chapter 9 informative note, seen).
+// Chapter 9 Table 1 Informational Note No. 2, seen).
 type DuctFill struct {
 	Span, PathwayID string
 	Duct            int  // 1-based
@@ -141,6 +141,11 @@ type DuctFill struct {
 	OK              bool
 	JamRatio        float64 // 0 when the jam check does not apply
 	JamRisk         bool
+	// Unplaced marks the row of a span's cables that fit none of its ducts (install.Load.Takes:
+	// too wide, or every duct full or jam-prone for them): Duct is 0, CablesODMM lists them,
+	// FillPct and AllowedPct are 0 and OK is false. Every cable the legs pull along a span of
+	// limited capacity is in exactly one row of it.
+	Unplaced bool
 }
 
 // Connectivity is what one building terminates: fibre strands on adapter panels in
@@ -622,14 +627,23 @@ func (r *run) lateralEnd(b, id string, sp *geo.Span) (own, carried geo.Entry) {
 }
 
 // ductFill checks every duct of every span of limited capacity that carries cable, with
-// the chosen cables' outside diameters, packed as the optimizer does (first fit decreasing).
+// the chosen cables' outside diameters, packed as the optimizer packs them
+// (install.DuctBank.Pull: first fit by install.Load.Takes, in the optimizer's order,
+// routing.SegmentFill.Links), and the ducts of new construction. Cables that fit no duct get
+// a row of their own, not OK.
 func (r *run) ductFill() {
 	e := r.Estimate
 	var design plan.Design // a Result assembled by hand may lack its plan
 	if r.Plan != nil {
 		design = r.Plan.Design
 	}
-	ods := map[string][]float64{}
+	// The cables each link pulls along each span, in leg order: a diverse link's two legs
+	// share no span.
+	type onSpan struct {
+		link string
+		ods  []float64
+	}
+	bySpan := map[string][]onSpan{}
 	for i := range r.Legs {
 		l := &r.Legs[i]
 		if !l.Feasible {
@@ -639,23 +653,40 @@ func (r *run) ductFill() {
 		if design.Innerduct() {
 			od = design.InnerductODMM // every cable in a duct is in an innerduct of its own
 		}
+		link := ""
+		if l.Link != nil { // a leg assembled by hand may lack its link
+			link = l.Link.ID
+		}
 		for _, st := range l.Steps {
-			for c := 0; c < l.Cable.Cables; c++ {
-				ods[st.SpanID] = append(ods[st.SpanID], od)
-			}
+			bySpan[st.SpanID] = append(bySpan[st.SpanID], onSpan{link, slices.Repeat([]float64{od}, l.Cable.Cables)})
 		}
 	}
+	// cables lists a span's cables in the optimizer's packing order (the links in order), then
+	// any the optimizer did not count, in leg order.
+	cables := func(span string, order []string) []float64 {
+		var ods []float64
+		on := bySpan[span]
+		done := make([]bool, len(on))
+		for _, id := range order {
+			for k := range on {
+				if !done[k] && on[k].link == id {
+					ods, done[k] = append(ods, on[k].ods...), true
+					break
+				}
+			}
+		}
+		for k := range on {
+			if !done[k] {
+				ods = append(ods, on[k].ods...)
+			}
+		}
+		return ods
+	}
 	// pack fills the ducts of a span, existing ones first; ducts from `added` on are new.
-	pack := func(sp *geo.Span, ducts, added int, hint string) {
-		bank := install.DuctBank{Ducts: ducts, IDMM: sp.DuctMM}
-		a := bank.Assign(ods[sp.ID])
+	pack := func(sp *geo.Span, ducts, added int, a install.Assignment, ods []float64, hint string) {
 		if a.Err != nil {
 			e.Warnings = append(e.Warnings, fmt.Sprintf("span %s: duct fill: %v", sp.ID, a.Err))
 			return
-		}
-		if a.Unplaced > 0 {
-			e.Warnings = append(e.Warnings, fmt.Sprintf("span %s: %d of %d cables fit no duct within NFPA 70 Chapter 9 fill and jam limits%s",
-				sp.ID, a.Unplaced, len(ods[sp.ID]), hint))
 		}
 		for d, df := range a.Ducts {
 			if len(df.CablesODMM) == 0 {
@@ -665,18 +696,36 @@ func (r *run) ductFill() {
 				DuctIDMM: sp.DuctMM, CablesODMM: df.CablesODMM, Innerduct: design.Innerduct(), FillPct: df.Pct, AllowedPct: df.AllowedPct,
 				OK: df.OK && !df.JamRisk, JamRatio: df.JamRatio, JamRisk: df.JamRisk})
 		}
+		if a.Unplaced > 0 {
+			e.Warnings = append(e.Warnings, fmt.Sprintf("span %s: %d of %d cables fit no duct within NFPA 70 Chapter 9 fill and jam limits%s",
+				sp.ID, a.Unplaced, len(ods), hint))
+			var left []float64
+			for i, d := range a.DuctOf {
+				if d < 0 {
+					left = append(left, ods[i])
+				}
+			}
+			e.Fill = append(e.Fill, DuctFill{Span: sp.ID, PathwayID: sp.PathwayID, DuctIDMM: sp.DuctMM, CablesODMM: left,
+				Innerduct: design.Innerduct(), Unplaced: true})
+		}
 	}
 	for _, f := range r.Fill {
 		if f.Limited {
 			sp, _ := r.Site.Net.Span(f.Span)
-			pack(&sp, f.Ducts+f.AddedDucts, f.Ducts, "")
+			ods := cables(f.Span, f.Links)
+			bank := install.DuctBank{Ducts: f.Ducts + f.AddedDucts, IDMM: sp.DuctMM}
+			pack(&sp, bank.Ducts, f.Ducts, bank.Pull(ods), ods, "")
 		}
 	}
 	// The ducts of new construction: the design's, every one new (items.Opening). The
-	// optimizer does not limit them; a plan whose cables overflow them says so.
+	// optimizer does not limit them, so there is no order of its to follow: the largest
+	// cables go in first (install.DuctBank.Assign, by the same Load.Takes); a plan whose
+	// cables overflow them says so.
 	for _, id := range r.Opened {
-		if sp, _ := r.Site.Net.Span(id); sp.Type == geo.TypeDuct && sp.DuctMM > 0 && len(ods[id]) > 0 {
-			pack(&sp, max(design.NewDucts, 1), 0, "; raise design.new_ducts")
+		if sp, _ := r.Site.Net.Span(id); sp.Type == geo.TypeDuct && sp.DuctMM > 0 && len(bySpan[id]) > 0 {
+			ods := cables(id, nil)
+			bank := install.DuctBank{Ducts: max(design.NewDucts, 1), IDMM: sp.DuctMM}
+			pack(&sp, bank.Ducts, 0, bank.Assign(ods), ods, "; raise design.new_ducts")
 		}
 	}
 }

@@ -3,45 +3,88 @@ package optimize
 import (
 	"math"
 	"slices"
+
+	"spanwright/media/install"
 )
 
 // NFPA 70 Chapter 9 Table 1: the share of a conduit's internal cross-section that its cables may
-// fill (seen).
+// fill (seen), as fractions of the percentages media/install holds.
 const (
-	FillOneCable   = 0.53 // one cable
-	FillTwoCables  = 0.31 // two cables
-	FillMoreCables = 0.40 // three or more cables
+	FillOneCable   = install.FillOneCablePct / 100      // one cable
+	FillTwoCables  = install.FillTwoCablesPct / 100     // two cables
+	FillMoreCables = install.FillOverTwoCablesPct / 100 // three or more cables
 )
 
-// FillLimit returns the NFPA 70 Chapter 9 Table 1 fill fraction for n cables in one duct.
-func FillLimit(n int) float64 {
-	switch {
-	case n <= 1:
-		return FillOneCable
-	case n == 2:
-		return FillTwoCables
-	}
-	return FillMoreCables
-}
+// FillLimit returns the NFPA 70 Chapter 9 Table 1 fill fraction for n cables in one duct
+// (install.AllowedFillPct); n <= 1 is one cable.
+func FillLimit(n int) float64 { return install.AllowedFillPct(max(n, 1)) / 100 }
 
-// ductPack is the state of first-fit packing of cables into ducts of one diameter. A max
-// segment tree over the ducts' free room finds the first duct that takes a cable in
-// O(log ducts), which matters when thousands of cables share a duct bank.
+// ductPack is the state of first-fit packing of cables into ducts of one diameter, each duct
+// taking a cable by install.Load.Takes (fill, and the jam check for a third cable), the rule
+// the bill's duct fill check packs by. A max segment tree over the ducts' free area finds the
+// first duct with room for a cable in O(log ducts), which matters when thousands of cables
+// share a duct bank. A duct that may jam a third cable (install.Load.MayJam: two cables of
+// one size) is kept out of the tree in a group of the ducts holding the same two cables: they
+// are alike, so one Takes answers for the group and its lowest duct is the one first fit
+// would try. Placing a cable is then O(log ducts + groups), however many ducts hold a pair
+// that refuses it (innerducts of one size, two to a duct, on a trunk).
 type ductPack struct {
-	areaMM2 float64   // one duct's internal area
-	count   []int     // cables per duct
-	used    []float64 // cable area per duct, mm²
-	seg     []float64 // seg[1] is the root; leaves seg[size+j] hold duct j's room
-	size    int
+	ductIDMM float64
+	areaMM2  float64        // one duct's internal area
+	load     []install.Load // per duct: what it holds
+	seg      []float64      // seg[1] is the root; leaves seg[size+j] hold duct j's room
+	size     int
+	twos     []twoGroup // the ducts that may jam a third cable, by the two cables they hold
 }
 
-func (p *ductPack) room(j int) float64 { return FillLimit(p.count[j]+1)*p.areaMM2 - p.used[j] }
+// twoGroup is the ducts holding the same two cables of one size (install.Load.MayJam).
+type twoGroup struct {
+	load  install.Load // what each of them holds
+	ducts []int32      // a min-heap of their indices
+}
 
-// reset empties the packing for ducts of area areaMM2.
-func (p *ductPack) reset(areaMM2 float64) {
-	p.areaMM2, p.count, p.used = areaMM2, p.count[:0], p.used[:0]
+// room is the area duct j has for one more cable by fill alone (an upper bound of what Takes
+// allows), or -Inf for a duct that may jam a third cable: those are found through p.twos.
+func (p *ductPack) room(j int) float64 {
+	l := &p.load[j]
+	if l.Cables == 2 && l.MayJam() {
+		return math.Inf(-1)
+	}
+	return FillLimit(l.Cables+1)*p.areaMM2 - l.UsedMM2
+}
+
+// maxRoom is the most area any duct has for one more cable by fill alone; -Inf with no duct.
+func (p *ductPack) maxRoom() float64 {
+	m := math.Inf(-1)
+	if p.size > 0 {
+		m = p.seg[1]
+	}
+	for i := range p.twos {
+		if g := &p.twos[i]; len(g.ducts) > 0 {
+			m = max(m, FillLimit(3)*p.areaMM2-g.load.UsedMM2)
+		}
+	}
+	return m
+}
+
+// reset empties the packing for ducts of internal diameter ductIDMM.
+func (p *ductPack) reset(ductIDMM float64) {
+	p.ductIDMM, p.areaMM2, p.load, p.twos = ductIDMM, circleMM2(ductIDMM), p.load[:0], p.twos[:0]
 	for i := range p.seg {
 		p.seg[i] = math.Inf(-1)
+	}
+}
+
+// copyFrom makes p the packing saved in s, for ducts of internal diameter ductIDMM.
+func (p *ductPack) copyFrom(s *packState, ductIDMM float64) {
+	p.ductIDMM, p.areaMM2 = ductIDMM, circleMM2(ductIDMM)
+	p.load = append(p.load[:0], s.load...)
+	p.seg = append(p.seg[:0], s.seg...)
+	p.size = s.size
+	p.twos = slices.Grow(p.twos[:0], len(s.twos))[:len(s.twos)]
+	for i := range s.twos {
+		p.twos[i].load = s.twos[i].load
+		p.twos[i].ducts = append(p.twos[i].ducts[:0], s.twos[i].ducts...)
 	}
 }
 
@@ -67,7 +110,7 @@ func (p *ductPack) grow() {
 		p.seg[i] = math.Inf(-1)
 	}
 	p.size = size
-	for j := range p.count {
+	for j := range p.load {
 		p.seg[size+j] = p.room(j)
 	}
 	for i := size - 1; i >= 1; i-- {
@@ -78,50 +121,164 @@ func (p *ductPack) grow() {
 	}
 }
 
-func circleMM2(dMM float64) float64 { return math.Pi / 4 * dMM * dMM }
+func circleMM2(dMM float64) float64 { return install.CableAreaMM2(dMM) }
 
-// place puts a cable of area a into the first duct that stays within FillLimit, opening a new
-// duct when none does; it returns false when the cable does not fit even an empty duct.
-func (p *ductPack) place(a float64) bool {
-	const eps = 1e-9
-	if p.size > 0 && p.seg[1]+eps >= a {
-		i := 1
-		for i < p.size {
-			if p.seg[2*i]+eps >= a {
-				i = 2 * i
-			} else {
-				i = 2*i + 1
-			}
+// firstFrom returns the lowest duct index >= from whose room is at least a, or -1.
+func (p *ductPack) firstFrom(from int, a float64) int {
+	if from > 0 {
+		return p.first(1, 0, p.size, from, a)
+	}
+	if p.seg[1] < a {
+		return -1
+	}
+	i := 1
+	for i < p.size {
+		if p.seg[2*i] >= a {
+			i = 2 * i
+		} else {
+			i = 2*i + 1
 		}
-		j := i - p.size
-		p.count[j]++
-		p.used[j] += a
-		p.update(j)
+	}
+	return i - p.size
+}
+
+// first returns the lowest duct index >= from whose room is at least a, or -1; node i of the
+// tree covers ducts [lo, hi).
+func (p *ductPack) first(i, lo, hi, from int, a float64) int {
+	if hi <= from || p.seg[i] < a {
+		return -1
+	}
+	if hi-lo == 1 {
+		return lo
+	}
+	mid := (lo + hi) / 2
+	if j := p.first(2*i, lo, mid, from, a); j >= 0 {
+		return j
+	}
+	return p.first(2*i+1, mid, hi, from, a)
+}
+
+// place puts a cable of outside diameter odMM into the first duct that takes it
+// (install.Load.Takes), opening a new duct when none does; it returns false when the cable
+// does not fit even an empty duct.
+func (p *ductPack) place(odMM float64) bool {
+	const eps = 1e-9 // the tree screens by area; Takes decides
+	a := circleMM2(odMM) - eps
+	best, group := -1, -1
+	for from := 0; p.size > 0; {
+		j := p.firstFrom(from, a)
+		if j < 0 {
+			break
+		}
+		if p.load[j].Takes(p.ductIDMM, odMM) {
+			best = j
+			break
+		}
+		from = j + 1 // refused at the rounding edge of its fill
+	}
+	for i := range p.twos {
+		g := &p.twos[i]
+		if len(g.ducts) > 0 && (best < 0 || int(g.ducts[0]) < best) && g.load.Takes(p.ductIDMM, odMM) {
+			best, group = int(g.ducts[0]), i
+		}
+	}
+	if best < 0 {
+		if !(install.Load{}).Takes(p.ductIDMM, odMM) {
+			return false
+		}
+		p.open(odMM)
 		return true
 	}
-	if a > FillOneCable*p.areaMM2+eps {
-		return false
+	if group >= 0 {
+		heapPop(&p.twos[group].ducts)
 	}
-	p.count = append(p.count, 1)
-	p.used = append(p.used, a)
-	if len(p.count) > p.size {
-		p.grow()
-	} else {
-		p.update(len(p.count) - 1)
-	}
+	p.load[best].Add(odMM)
+	p.joinTwos(best)
+	p.update(best)
 	return true
 }
 
+// joinTwos puts duct j into the group of its two cables when it may jam a third.
+func (p *ductPack) joinTwos(j int) {
+	l := &p.load[j]
+	if l.Cables != 2 || !l.MayJam() {
+		return
+	}
+	for i := range p.twos {
+		if p.twos[i].load == *l {
+			heapPush(&p.twos[i].ducts, int32(j))
+			return
+		}
+	}
+	if len(p.twos) < cap(p.twos) {
+		p.twos = p.twos[:len(p.twos)+1] // reuse the element's heap
+	} else {
+		p.twos = append(p.twos, twoGroup{})
+	}
+	g := &p.twos[len(p.twos)-1]
+	g.load, g.ducts = *l, append(g.ducts[:0], int32(j))
+}
+
+// open adds a duct holding one cable of outside diameter odMM.
+func (p *ductPack) open(odMM float64) {
+	var l install.Load
+	l.Add(odMM)
+	p.load = append(p.load, l)
+	if len(p.load) > p.size {
+		p.grow()
+	} else {
+		p.update(len(p.load) - 1)
+	}
+}
+
+// heapPush adds j to the min-heap h.
+func heapPush(h *[]int32, j int32) {
+	*h = append(*h, j)
+	s := *h
+	for i := len(s) - 1; i > 0; {
+		up := (i - 1) / 2
+		if s[up] <= s[i] {
+			break
+		}
+		s[up], s[i] = s[i], s[up]
+		i = up
+	}
+}
+
+// heapPop removes the least element of the min-heap h.
+func heapPop(h *[]int32) {
+	s := *h
+	n := len(s) - 1
+	s[0] = s[n]
+	s = s[:n]
+	for i := 0; ; {
+		l, m := 2*i+1, i
+		if l < n && s[l] < s[m] {
+			m = l
+		}
+		if r := l + 1; r < n && s[r] < s[m] {
+			m = r
+		}
+		if m == i {
+			break
+		}
+		s[i], s[m] = s[m], s[i]
+		i = m
+	}
+	*h = s
+}
+
 // NFPAFits reports whether cables of the given outside diameters (mm) fit in ducts ducts of
-// internal diameter ductIDMM, placing them first-fit in the given order and holding each duct to
-// the NFPA 70 Chapter 9 Table 1 fill for its cable count (53 % one, 31 % two, 40 % three or more).
-// First-fit in a fixed order is a packing rule, not an optimal bin packing: it may use a duct
-// more than the best arrangement would.
+// internal diameter ductIDMM, placing them first-fit in the given order by install.Load.Takes:
+// each duct held to the NFPA 70 Chapter 9 Table 1 fill for its cable count (53 % one, 31 % two,
+// 40 % three or more), and no third cable that would jam. First-fit in a fixed order is a
+// packing rule, not an optimal bin packing: it may use a duct more than the best arrangement
+// would. install.DuctBank.Pull places the same cables in the same ducts.
 func NFPAFits(ductIDMM float64, cableODsMM []float64, ducts int) bool {
 	var p ductPack
-	p.reset(circleMM2(ductIDMM))
+	p.reset(ductIDMM)
 	for _, od := range cableODsMM {
-		if !p.place(circleMM2(od)) || len(p.count) > ducts {
+		if !p.place(od) || len(p.load) > ducts {
 			return false
 		}
 	}
@@ -153,16 +310,16 @@ func (c *capacity) needed(e int, ods []float64, pack *ductPack) (added int, ok b
 		if pack != nil {
 			p = pack
 		}
-		p.reset(circleMM2(ed.DuctIDMM))
+		p.reset(ed.DuctIDMM)
 		for _, od := range ods {
 			if od <= 0 {
 				continue
 			}
-			if !p.place(math.Pi / 4 * od * od) {
+			if !p.place(od) {
 				return 0, false
 			}
 		}
-		added = max(0, len(p.count)-ed.Ducts)
+		added = max(0, len(p.load)-ed.Ducts)
 		return added, added <= maxAdd
 	}
 	for i := range ods {
@@ -181,15 +338,12 @@ func (c *capacity) needed(e int, ods []float64, pack *ductPack) (added int, ok b
 // total is the number of cables in all.
 func (c *capacity) extend(e int, from *packState, to *ductPack, more []float64, total int) (added int, ok bool) {
 	ed := &c.edges[e]
-	to.count = append(to.count[:0], from.count...)
-	to.used = append(to.used[:0], from.used...)
-	to.seg = append(to.seg[:0], from.seg...)
-	to.size = from.size
+	to.copyFrom(from, ed.DuctIDMM)
 	for _, od := range more {
 		if od <= 0 {
 			continue
 		}
-		if !to.place(math.Pi / 4 * od * od) {
+		if !to.place(od) {
 			return 0, false
 		}
 	}
@@ -197,7 +351,7 @@ func (c *capacity) extend(e int, from *packState, to *ductPack, more []float64, 
 	if ed.AddDuctPerMCents > 0 {
 		maxAdd = total
 	}
-	added = max(0, len(to.count)-ed.Ducts)
+	added = max(0, len(to.load)-ed.Ducts)
 	return added, added <= maxAdd
 }
 
@@ -219,10 +373,10 @@ func (c *capacity) prefixNeeds(e int, ods []float64) []int {
 	}
 	ed := &c.edges[e]
 	p := &c.pack
-	p.reset(circleMM2(ed.DuctIDMM))
+	p.reset(ed.DuctIDMM)
 	failed := false
 	for i, od := range ods {
-		if !failed && od > 0 && !p.place(math.Pi/4*od*od) {
+		if !failed && od > 0 && !p.place(od) {
 			failed = true // this prefix and every longer one cannot be pulled
 		}
 		if !failed {
@@ -230,7 +384,7 @@ func (c *capacity) prefixNeeds(e int, ods []float64) []int {
 			if ed.AddDuctPerMCents > 0 {
 				maxAdd = i + 1
 			}
-			if added := max(0, len(p.count)-ed.Ducts); added <= maxAdd {
+			if added := max(0, len(p.load)-ed.Ducts); added <= maxAdd {
 				prev = added
 			}
 		}
@@ -243,22 +397,15 @@ func (c *capacity) prefixNeeds(e int, ods []float64) []int {
 // packing first-fit in order, in mm².
 func (c *capacity) allowedArea(ductIDMM float64, ods []float64) (usedMM2, allowedMM2 float64) {
 	p := &c.pack
-	p.reset(circleMM2(ductIDMM))
+	p.reset(ductIDMM)
 	for _, od := range ods {
-		a := circleMM2(od)
-		usedMM2 += a
-		if od > 0 && !p.place(a) {
-			p.count = append(p.count, 1) // too wide for any duct: counted as its own
-			p.used = append(p.used, a)
-			if len(p.count) > p.size {
-				p.grow()
-			} else {
-				p.update(len(p.count) - 1)
-			}
+		usedMM2 += circleMM2(od)
+		if od > 0 && !p.place(od) {
+			p.open(od) // too wide for any duct: counted as its own
 		}
 	}
-	for _, n := range p.count {
-		allowedMM2 += FillLimit(n) * p.areaMM2
+	for _, l := range p.load {
+		allowedMM2 += FillLimit(l.Cables) * p.areaMM2
 	}
 	return usedMM2, allowedMM2
 }

@@ -6,6 +6,8 @@ import (
 	"math/rand/v2"
 	"slices"
 	"testing"
+
+	"spanwright/media/install"
 )
 
 // verify checks a Solution against its Problem independently of the solver: every leg is a
@@ -192,6 +194,30 @@ func verifyErr(p *Problem, sol *Solution) error {
 		}
 		if f.Limited && f.UsedAreaMM2 > f.AllowedAreaMM2+1e-6 && f.AddedDucts == 0 && p.Fits == nil {
 			return fmt.Errorf("edge %d: %.1f mm² used exceeds %.1f mm² allowed", f.Edge, f.UsedAreaMM2, f.AllowedAreaMM2)
+		}
+		if f.Limited && p.Fits == nil {
+			// The ducts bought are those the bill's packing needs (install.DuctBank.Pull in the
+			// order the fill gives, by install.Load.Takes): the one packing rule.
+			us := slices.Clone(users[f.Edge])
+			slices.Sort(us)
+			if !slices.Equal(us, f.Demands) {
+				return fmt.Errorf("edge %d: fill packs demands %v, routes put %v", f.Edge, f.Demands, us)
+			}
+			ods := make([]float64, len(f.Demands))
+			for i, d := range f.Demands {
+				ods[i] = p.Demands[d].Options[sol.Routes[d].Option].CableODMM
+			}
+			a := install.DuctBank{Ducts: min(len(ods), install.MaxBankDucts), IDMM: p.Edges[f.Edge].DuctIDMM}.Pull(ods)
+			used := 0
+			for _, df := range a.Ducts {
+				if len(df.CablesODMM) > 0 {
+					used++
+				}
+			}
+			if a.OK && (p.Edges[f.Edge].AddDuctPerMCents > 0 || used <= p.Edges[f.Edge].Ducts) && f.AddedDucts != max(0, used-p.Edges[f.Edge].Ducts) {
+				return fmt.Errorf("edge %d: %d ducts added, the bill's packing of %v in %g mm ducts uses %d of %d spare",
+					f.Edge, f.AddedDucts, ods, p.Edges[f.Edge].DuctIDMM, used, p.Edges[f.Edge].Ducts)
+			}
 		}
 	}
 	if ducts != wantDucts {

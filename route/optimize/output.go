@@ -70,6 +70,10 @@ func (sv *solver) solution() *Solution {
 			}
 			sv.odBuf = ods
 			fill.Ducts, fill.AddedDucts = ed.Ducts, st.added[e]
+			fill.Demands = make([]int, len(users))
+			for i, u := range users {
+				fill.Demands[i] = int(u)
+			}
 			fill.UsedAreaMM2, fill.AllowedAreaMM2 = sv.cap.allowedArea(ed.DuctIDMM, ods)
 			prev := 0
 			for i, k := range sv.cap.prefixNeeds(e, ods) {

@@ -146,6 +146,11 @@ type EdgeFill struct {
 	// order (53 % of a duct for one cable, 31 % for two, 40 % for more).
 	UsedAreaMM2    float64
 	AllowedAreaMM2 float64
+	// Demands are the demands whose cables a limited edge carries, in the order they are
+	// packed into its ducts (first fit, install.Load.Takes): install.DuctBank.Pull given their
+	// cables in this order and Ducts+AddedDucts ducts places what the optimizer placed. Nil on
+	// an unlimited edge.
+	Demands []int
 }
 
 // Solution is the result of Solve.

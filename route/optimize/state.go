@@ -3,6 +3,8 @@ package optimize
 import (
 	"math"
 	"slices"
+
+	"spanwright/media/install"
 )
 
 // The plan under construction and its exact, incremental cost accounting.
@@ -93,7 +95,7 @@ func newState(sv *solver) *state {
 		st.users[e], st.ods[e] = st.users[e][:0], st.ods[e][:0]
 		st.alt[e].valid = false
 		if sv.limited[e] {
-			st.packs[e].reset(circleMM2(sv.p.Edges[e].DuctIDMM))
+			st.packs[e].reset(sv.p.Edges[e].DuctIDMM)
 			st.free[e] = math.Inf(-1)
 			if sv.p.Edges[e].Ducts > 0 {
 				st.free[e] = FillOneCable * st.packs[e].areaMM2
@@ -131,8 +133,8 @@ func (sv *solver) od(d, o int) float64 { return sv.p.Demands[d].Options[o].Cable
 
 // packState is a saved packing and its outcome.
 type packState struct {
-	count []int
-	used  []float64
+	load  []install.Load
+	twos  []twoGroup
 	seg   []float64
 	size  int
 	added int
@@ -167,8 +169,8 @@ func (sv *solver) flush() {
 		cur, alt := &st.packs[e], &st.alt[e]
 		swapWith := alt.valid && alt.h == st.hsh[e]
 		// Exchange the current packing with the saved one.
-		cur.count, alt.count = alt.count, cur.count
-		cur.used, alt.used = alt.used, cur.used
+		cur.load, alt.load = alt.load, cur.load
+		cur.twos, alt.twos = alt.twos, cur.twos
 		cur.seg, alt.seg = alt.seg, cur.seg
 		cur.size, alt.size = alt.size, cur.size
 		added, ok := alt.added, alt.ok
@@ -212,11 +214,8 @@ func (sv *solver) applyDucts(e, added int, ok bool) {
 	}
 	st.added[e] = added
 	pk := &st.packs[e]
-	st.free[e] = math.Inf(-1)
-	if pk.size > 0 {
-		st.free[e] = pk.seg[1]
-	}
-	if len(pk.count) < sv.p.Edges[e].Ducts+added {
+	st.free[e] = pk.maxRoom()
+	if len(pk.load) < sv.p.Edges[e].Ducts+added {
 		st.free[e] = max(st.free[e], FillOneCable*pk.areaMM2)
 	}
 	st.fits[e] = uint8(min(sv.sizesFitting(st.free[e]), 255))
@@ -372,8 +371,8 @@ func (sv *solver) lastDuctCents(e int) int64 {
 
 func (sv *solver) holdsLastDuct(e int32, areaMM2 float64) bool {
 	pk := &sv.st.packs[e]
-	n := len(pk.count)
-	return n > 0 && n > sv.p.Edges[e].Ducts && pk.used[n-1] <= areaMM2+1e-9
+	n := len(pk.load)
+	return n > 0 && n > sv.p.Edges[e].Ducts && pk.load[n-1].UsedMM2 <= areaMM2+1e-9
 }
 
 // penalty returns the price of the ducts demand d's cable (option o) would add to edge e if it

@@ -415,9 +415,13 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 		if f.JamRatio > 0 {
 			jam = workbook.Number(f.JamRatio, 2)
 		}
-		fill.Append(workbook.Text(f.Span), workbook.Text(f.PathwayID), workbook.Int(int64(f.Duct)), workbook.Bool(f.Added),
+		duct, pct, limit := workbook.Int(int64(f.Duct)), workbook.Number(f.FillPct, 1), workbook.Number(f.AllowedPct, 0)
+		if f.Unplaced { // cables that fit none of the span's ducts
+			duct, pct, limit = workbook.Text("none"), workbook.Blank(), workbook.Blank()
+		}
+		fill.Append(workbook.Text(f.Span), workbook.Text(f.PathwayID), duct, workbook.Bool(f.Added),
 			workbook.Number(u.MM(f.DuctIDMM), 2), workbook.Int(int64(len(f.CablesODMM))), workbook.Text(strings.Join(ods, " ")),
-			workbook.Number(f.FillPct, 1), workbook.Number(f.AllowedPct, 0), jam, workbook.Bool(f.JamRisk), workbook.Bool(f.OK))
+			pct, limit, jam, workbook.Bool(f.JamRisk), workbook.Bool(f.OK))
 	}
 	for i := range r.Legs {
 		l := &r.Legs[i]

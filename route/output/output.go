@@ -737,6 +737,9 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 		fmt.Fprintf(w, "pulling: %s, %d over rating; highest %.1f %s of %.1f %s rated (%s %s, from %s to %s)\n",
 			Counted(s.PullSections, "pull section", "pull sections"), s.PullsOverRating, tn, u.Force, rated, u.Force, t(r.Legs[hi.Leg].Link.ID), t(r.Legs[hi.Leg].Name), t(PointText(opt, hi.From)), t(PointText(opt, hi.To)))
 	}
+	if line := fillLine(e.Fill); line != "" {
+		fmt.Fprintln(w, line)
+	}
 	b := e.BOM
 	var cats []string
 	for _, x := range b.Subtotal {
@@ -761,6 +764,45 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 		fmt.Fprintf(w, "warning: %s\n", s.DemoPrices)
 	}
 	return nil
+}
+
+// shownFillSpans is the most spans the terminal's duct fill line names.
+const shownFillSpans = 5
+
+// fillLine is the terminal's duct fill line: the ducts over their NFPA 70 Chapter 9 fill
+// limit or at risk of a jam, and the cables that fit no duct of their span, with the spans
+// they are on; "" when every duct is OK.
+func fillLine(fill []estimate.DuctFill) string {
+	ducts, cables := 0, 0
+	var spans []string
+	for _, f := range fill {
+		if f.OK {
+			continue
+		}
+		if f.Unplaced {
+			cables += len(f.CablesODMM)
+		} else {
+			ducts++
+		}
+		if len(spans) == 0 || spans[len(spans)-1] != f.Span {
+			spans = append(spans, f.Span)
+		}
+	}
+	if ducts == 0 && cables == 0 {
+		return ""
+	}
+	var parts []string
+	if ducts > 0 {
+		parts = append(parts, Counted(ducts, "duct", "ducts")+" over the fill limit or at risk of a jam")
+	}
+	if cables > 0 {
+		parts = append(parts, Counted(cables, "cable", "cables")+" in no duct")
+	}
+	slices.Sort(spans)
+	spans = slices.Compact(spans)
+	shown, more := input.Shown(spans, shownFillSpans)
+	return fmt.Sprintf("duct fill: %s, on %s %s%s (see the duct fill sheet of bom.xlsx)",
+		strings.Join(parts, ", "), Counted(len(spans), "span", "spans"), escape.TerminalList(shown), more)
 }
 
 // PricedNote says, when some legs are infeasible, that the plan's costs price only the

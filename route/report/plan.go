@@ -205,6 +205,7 @@ type planView struct {
 	FillOpen   int
 	Ducts      []ductRow
 	DuctsOver  int
+	NoDuct     string // how many cables fit no duct of their span (estimate.DuctFill.Unplaced), "" for none
 	HasEst     bool
 	Pulls      []pullRow
 	PullsOver  int
@@ -476,6 +477,18 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 		v.BOMLabel = e.BOM.Label
 		v.Subtotal = money(e.BOM.SubtotalCents)
 		v.Ducts, v.DuctsOver, v.DuctsListed = ductRows(e.Fill, opt)
+		noDuct := 0
+		for _, f := range e.Fill {
+			if f.Unplaced {
+				noDuct += len(f.CablesODMM)
+			}
+		}
+		switch {
+		case noDuct == 1:
+			v.NoDuct = "1 cable fits no duct of its span"
+		case noDuct > 1:
+			v.NoDuct = strconv.Itoa(noDuct) + " cables fit no duct of their span"
+		}
 		v.Pulls, v.PullsOver, v.PullsListed = pullRows(r, opt)
 		v.PullPoints = e.AddedPullPoints
 		for _, d := range s.CostDrivers {
@@ -886,9 +899,10 @@ func present(drawn map[string]bool, items []legendItem) []legendItem {
 	return out
 }
 
-// ductRows lists the fill of every duct that holds cable on a span of limited capacity:
-// ducts over the NFPA 70 Chapter 9 Table 1 fill or at risk of a jam first, then by fill
-// relative to its limit, then by span and duct.
+// ductRows lists the fill of every duct that holds cable on a span of limited capacity, and
+// the cables of a span that fit none of its ducts (a row of their own, duct "none"): those
+// and ducts over the NFPA 70 Chapter 9 Table 1 fill or at risk of a jam first, then by fill
+// relative to its limit, then by span and duct. The count is of the ducts not OK.
 func ductRows(fs []estimate.DuctFill, opt Options) ([]ductRow, int, listed) {
 	list := append([]estimate.DuctFill(nil), fs...)
 	ratio := func(f estimate.DuctFill) float64 {
@@ -910,13 +924,16 @@ func ductRows(fs []estimate.DuctFill, opt Options) ([]ductRow, int, listed) {
 		}
 		return a.Duct < b.Duct
 	})
-	bad := countOf(list, func(f estimate.DuctFill) bool { return !f.OK })
+	bad := countOf(list, func(f estimate.DuctFill) bool { return !f.OK && !f.Unplaced })
 	shown := listOf(len(list))
 	out := make([]ductRow, shown.Shown)
 	for i, f := range list[:shown.Shown] {
 		duct := strconv.Itoa(f.Duct)
 		if f.Added {
 			duct += " (added)"
+		}
+		if f.Unplaced {
+			duct = "none"
 		}
 		cables := strconv.Itoa(len(f.CablesODMM))
 		if f.Innerduct {
@@ -932,6 +949,9 @@ func ductRows(fs []estimate.DuctFill, opt Options) ([]ductRow, int, listed) {
 			BarW: num(w), LimitX: num(math.Min(f.AllowedPct, 100)), Over: f.FillPct > f.AllowedPct, JamRisk: f.JamRisk, Bad: !f.OK}
 		if f.JamRatio > 0 {
 			row.Jam = strconv.FormatFloat(f.JamRatio, 'f', 2, 64)
+		}
+		if f.Unplaced {
+			row.Fill, row.Allowed, row.BarW, row.LimitX = "fit no duct", "", num(0), num(0)
 		}
 		out[i] = row
 	}

@@ -212,6 +212,13 @@ func (c *canonical) back(s *optimize.Solution) *optimize.Solution {
 	out.Fill = make([]optimize.EdgeFill, len(s.Fill))
 	for i, f := range s.Fill {
 		f.Edge = c.edge[f.Edge]
+		if f.Demands != nil {
+			ds := make([]int, len(f.Demands))
+			for k, d := range f.Demands {
+				ds[k] = c.dem[d] // the packing order stays the canonical one the optimizer packed in
+			}
+			f.Demands = ds
+		}
 		out.Fill[i] = f
 	}
 	slices.SortFunc(out.Fill, func(a, b optimize.EdgeFill) int { return cmp.Compare(a.Edge, b.Edge) })

@@ -550,23 +550,27 @@ func (m *Model) cableFor(medium string, rate float64, facts media.Link, slackM f
 	return v
 }
 
-// cableOD is the outside diameter in millimetres of the outdoor-rated cable of the medium
-// for the strands, or of its first construction when none is outdoor-rated.
+// cableOD is the outside diameter in millimetres of the cable the duct capacity counts for
+// the medium and strands: the largest of its outdoor-rated constructions' sizes, since the
+// rules pick the leg's construction only once it is routed (on its inside runs), and a duct
+// sized for a thinner one would leave the cable in no duct; of its first construction when
+// none is outdoor-rated.
 func cableOD(m *media.Medium, strands, copperCables int) float64 {
 	if m.Kind == media.KindCopper {
 		strands = copperCables
 	}
+	od, found := 0.0, false
 	for _, k := range m.Constructions {
 		if k.OutdoorRated {
 			size, _ := k.Fit(strands)
-			return size.ODMM
+			od, found = max(od, size.ODMM), true
 		}
 	}
-	if len(m.Constructions) > 0 {
+	if !found && len(m.Constructions) > 0 {
 		size, _ := m.Constructions[0].Fit(strands)
-		return size.ODMM
+		od = size.ODMM
 	}
-	return 0
+	return od
 }
 
 // runsOf is the site's runs of new construction with the handholes the design places along

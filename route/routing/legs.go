@@ -386,6 +386,10 @@ type SegmentFill struct {
 	AddedDucts     int
 	UsedAreaMM2    float64
 	AllowedAreaMM2 float64
+	// Links are the links whose cables a limited span carries, by id, in the order the
+	// optimizer packed them into its ducts (optimize.EdgeFill.Demands): the estimate's duct
+	// fill packs them in this order too. Nil when the span is not limited.
+	Links []string
 }
 
 func fillReport(s *site.Site, prob *optimize.Problem, sol *optimize.Solution) []SegmentFill {
@@ -395,8 +399,12 @@ func fillReport(s *site.Site, prob *optimize.Problem, sol *optimize.Solution) []
 			continue // an entrance or turn edge holds no cable of its own
 		}
 		sp := &s.Net.Spans[f.Edge]
+		var links []string
+		for _, d := range f.Demands {
+			links = append(links, prob.Demands[d].ID)
+		}
 		out = append(out, SegmentFill{Span: sp.ID, PathwayID: sp.PathwayID, Cables: f.Cables, Limited: f.Limited,
-			Ducts: f.Ducts, AddedDucts: f.AddedDucts, UsedAreaMM2: f.UsedAreaMM2, AllowedAreaMM2: f.AllowedAreaMM2})
+			Ducts: f.Ducts, AddedDucts: f.AddedDucts, UsedAreaMM2: f.UsedAreaMM2, AllowedAreaMM2: f.AllowedAreaMM2, Links: links})
 	}
 	sort.Slice(out, func(i, j int) bool { return out[i].Span < out[j].Span })
 	return out

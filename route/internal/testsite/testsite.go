@@ -232,6 +232,36 @@ func PullCampus(ductMM float64, spare int) string {
 	return `{"type":"FeatureCollection","features":[` + strings.Join(f, ",") + `]}`
 }
 
+// FanCampus is hub A and buildings B, C and E, all reached over one duct T (spare ducts of
+// ductMM, or, proposed, new construction whose ducts are of ductMM) that ends at a junction,
+// where direct-buried pathways (no duct limit) fan out to the three buildings: every link's
+// cable crosses T, and there is no other way.
+func FanCampus(ductMM float64, spare int, proposed bool) string {
+	line := func(pts ...float64) string {
+		var s []string
+		for i := 0; i+1 < len(pts); i += 2 {
+			s = append(s, fmt.Sprintf("[%.7f,%.7f]", X(pts[i]), Y(pts[i+1])))
+		}
+		return "[" + strings.Join(s, ",") + "]"
+	}
+	way := func(id, typ, props, coords string) string {
+		return fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":%q,"type":%q%s},"geometry":{"type":"LineString","coordinates":%s}}`,
+			id, typ, props, coords)
+	}
+	t := fmt.Sprintf(`,"spare_ducts":%d,"duct_mm":%g`, spare, ductMM)
+	if proposed {
+		t = fmt.Sprintf(`,"status":"proposed","surface":"turf","duct_mm":%g`, ductMM)
+	}
+	f := []string{
+		Box("A", "mc", 10, 25), Box("B", "", 300, 25), Box("C", "", 200, 125), Box("E", "", 200, -125),
+		way("T", "duct", t, line(10, 15, 10, 0, 200, 0)),
+		way("FB", "buried", "", line(200, 0, 300, 0, 300, 15)),
+		way("FC", "buried", "", line(200, 0, 200, 115)),
+		way("FE", "buried", "", line(200, 0, 200, -115)),
+	}
+	return `{"type":"FeatureCollection","features":[` + strings.Join(f, ",") + `]}`
+}
+
 // demoPlanPath is the demo plan's path, found from this file's own place in the repository
 // (tests run in their package's folder, which differs from package to package).
 func demoPlanPath() string {
