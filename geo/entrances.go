@@ -47,6 +47,7 @@ func (b *builder) entrances(n *Network) {
 	type found struct {
 		Entry
 		root int
+		ent  int // declared entrance index, -1 for another way in
 	}
 	for bi, bl := range b.c.Buildings {
 		var list []found
@@ -56,7 +57,7 @@ func (b *builder) entrances(n *Network) {
 			if !ok {
 				continue // a pathway end on a piece dropped as noise
 			}
-			e := found{Entry{Access: Access{Building: bl.ID, Junction: id, Via: d.via}}, r}
+			e := found{Entry{Access: Access{Building: bl.ID, Junction: id, Via: d.via}}, r, d.entrance}
 			if d.entrance >= 0 {
 				e.ID = b.entIDs[d.entrance]
 			}
@@ -74,7 +75,14 @@ func (b *builder) entrances(n *Network) {
 			if k := slices.IndexFunc(list, func(o found) bool { return o.Junction == id }); k >= 0 { // a building has few
 				o := list[k]
 				if entryRank[e.Via] < entryRank[o.Via] || (e.Via == o.Via && e.ID < o.ID) {
-					list[k] = e
+					list[k], e, o = e, o, e
+				}
+				if e.ent >= 0 && o.ent >= 0 {
+					// Two declared entrances that reach the network at one point are one way in:
+					// say which one stands for both rather than drop one silently.
+					b.warns = append(b.warns, warnRec{b.c.Entrances[e.ent].Source, e.ID, fmt.Sprintf(
+						"entrance %q of building %q reaches the network at the same point as entrance %q (junction %s): the two are one entrance, %q; draw a pathway to %q to make it a way in of its own",
+						e.ID, bl.ID, o.ID, id, o.ID, e.ID)})
 				}
 				continue
 			}

@@ -167,3 +167,32 @@ func TestAddedDuctEntersItsOwnWall(t *testing.T) {
 		t.Errorf("firestop at entrances already there: %+v, want 2", firestop)
 	}
 }
+
+// TestEntrancesAtOnePoint: two declared entrances of building C whose laterals reach the
+// network at one junction (the end of the proposed duct P at C's wall, the second 4 m along
+// the wall) are one way in; the one that stands for both is said in a warning naming the
+// other's feature, instead of the second being dropped without a word. The project's own
+// rule (README "A building may have any number of entrances"): no outside source.
+func TestEntrancesAtOnePoint(t *testing.T) {
+	t.Parallel()
+	entrance := `,{"type":"Feature","properties":{"kind":"entrance","id":%q,"building":"C"},"geometry":{"type":"Point","coordinates":[%.7f,%.7f]}}`
+	campus := strings.TrimSuffix(testsite.PullCampus(100, 2), "]}") +
+		fmt.Sprintf(entrance, "C-1", testsite.X(300), testsite.Y(15)) + fmt.Sprintf(entrance, "C-2", testsite.X(304), testsite.Y(15)) + "]}"
+	r, err := testplan.PullSolveJSON(t, campus, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if es := r.Site.Net.EntrancesOf("C"); len(es) != 1 || es[0].ID != "C-1" {
+		t.Fatalf("entrances of C: %+v, want C-1 alone", es)
+	}
+	want := `entrance "C-2" of building "C" reaches the network at the same point as entrance "C-1"`
+	found := false
+	for _, w := range r.Site.Net.Warnings {
+		if strings.Contains(w.Message, want) && strings.Contains(w.Feature, "C-2") {
+			found = true
+		}
+	}
+	if !found {
+		t.Errorf("no warning %q among %v", want, r.Site.Net.Warnings)
+	}
+}
