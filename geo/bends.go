@@ -56,9 +56,9 @@ func (n *Network) TurnDeg(a, b Step) float64 {
 // AwayFrom returns the vertex of the span's line that its line simplified within
 // BendToleranceM goes to first from its From end, or from its To end when atTo is true: the
 // direction of the span at that end's junction is towards it (TurnDeg, LateralTurnDeg), and
-// BendsDeg turns from and to those end chords. It is at least BendToleranceM from the end
-// (Douglas–Peucker keeps no vertex within it of a chord), so a vertex drawn a hair beside the
-// junction does not set the direction. A span not made by Build, or one of two points, goes
+// BendsDeg turns from and to those end chords. Unless it is the span's other end, it is more
+// than BendToleranceM from the end (Douglas–Peucker keeps no vertex within it of a chord), so
+// a vertex drawn a hair beside the junction does not set the direction. A span not made by Build, or one of two points, goes
 // to its next vertex; a span without a line gives the zero point.
 func (s *Span) AwayFrom(atTo bool) orb.Point {
 	n := len(s.Line)
