@@ -22,9 +22,11 @@ func (s *Span) SegmentsM() []float64 {
 
 // TurnDeg returns the deflection in degrees where a route passes from step a to step b at
 // the junction they share: 0 when b carries straight on from a, 90 at a right-angle turn,
-// 180 when b doubles back. It measures the angle between the last segment of a and the
-// first segment of b, in their travel directions, on a local equirectangular projection
-// around the junction (angles at campus scale are unaffected by its scale error).
+// 180 when b doubles back. It measures the angle between the end chord of a and the first
+// chord of b, in their travel directions, of their lines simplified within BendToleranceM
+// (Span.AwayFrom), on a local equirectangular projection around the junction (angles at
+// campus scale are unaffected by its scale error): a digitizing spike or a jitter within
+// BendToleranceM next to the junction is no turn there, as it is no bend along the span.
 //
 // It returns 0 when either span is unknown or has fewer than two points, or when a does not
 // end at the junction where b starts. Time O(1) on a Network from Build.
@@ -44,16 +46,34 @@ func (n *Network) TurnDeg(a, b Step) float64 {
 	if endA != startB {
 		return 0
 	}
-	la, lb := len(sa.Line), len(sb.Line)
-	prev, at := sa.Line[la-2], sa.Line[la-1]
+	at := sa.Line[len(sa.Line)-1]
 	if a.Reverse {
-		prev, at = sa.Line[1], sa.Line[0]
+		at = sa.Line[0]
 	}
-	next := sb.Line[1]
-	if b.Reverse {
-		next = sb.Line[lb-2]
+	return turnAt(sa.AwayFrom(!a.Reverse), at, sb.AwayFrom(b.Reverse))
+}
+
+// AwayFrom returns the vertex of the span's line that its line simplified within
+// BendToleranceM goes to first from its From end, or from its To end when atTo is true: the
+// direction of the span at that end's junction is towards it (TurnDeg, LateralTurnDeg), and
+// BendsDeg turns from and to those end chords. Unless it is the span's other end, it is more
+// than BendToleranceM from the end (Douglas–Peucker keeps no vertex within it of a chord), so
+// a vertex drawn a hair beside the junction does not set the direction. A span not made by Build, or one of two points, goes
+// to its next vertex; a span without a line gives the zero point.
+func (s *Span) AwayFrom(atTo bool) orb.Point {
+	n := len(s.Line)
+	if n == 0 {
+		return orb.Point{}
 	}
-	return turnAt(prev, at, next)
+	i := 0
+	if atTo {
+		i = 1
+	}
+	k := min(max(s.near[i], 1), n-1)
+	if atTo {
+		return s.Line[n-1-k]
+	}
+	return s.Line[k]
 }
 
 // turnAt is the deflection in degrees at p on the way a → p → c, on an equirectangular
@@ -71,26 +91,19 @@ func turnAt(a, p, c orb.Point) float64 {
 // LateralTurnDeg returns the deflection in degrees where a counted lateral (building side
 // first, Access.Lateral) meets the span of step b at the junction where the lateral ends:
 // into b when b starts there (into is true), or out of b into the lateral, towards the
-// building, when b ends there. As TurnDeg, on the last segments; 0 when either has fewer than
+// building, when b ends there. As TurnDeg, on the lateral's last segment (Build draws it
+// straight) and the span's chord at that end (Span.AwayFrom); 0 when either has fewer than
 // two points.
 func (n *Network) LateralTurnDeg(lateral orb.LineString, b Step, into bool) float64 {
 	sb, ok := n.Span(b.SpanID)
-	nl, lb := len(lateral), len(sb.Line)
-	if !ok || nl < 2 || lb < 2 {
+	nl := len(lateral)
+	if !ok || nl < 2 || len(sb.Line) < 2 {
 		return 0
 	}
 	if into {
-		next := sb.Line[1]
-		if b.Reverse {
-			next = sb.Line[lb-2]
-		}
-		return turnAt(lateral[nl-2], lateral[nl-1], next)
+		return turnAt(lateral[nl-2], lateral[nl-1], sb.AwayFrom(b.Reverse))
 	}
-	prev := sb.Line[lb-2]
-	if b.Reverse {
-		prev = sb.Line[1]
-	}
-	return turnAt(prev, lateral[nl-1], lateral[nl-2])
+	return turnAt(sb.AwayFrom(!b.Reverse), lateral[nl-1], lateral[nl-2])
 }
 
 // BendToleranceM is how far, in metres, a vertex of a span's line may stand off the straight
@@ -109,38 +122,60 @@ func (n *Network) LateralTurnDeg(lateral orb.LineString, b Step, into bool) floa
 const BendToleranceM = 0.25
 
 // bendsDeg returns the bend in degrees at each interior vertex of the line xy (local metres),
-// one value per interior vertex so the bends stay aligned with the segments. The vertices the
-// line simplified within BendToleranceM keeps are its bends; every other vertex is 0, and its
-// turn (signed: left positive) goes to the nearest kept vertex along the line, so that a kept
-// vertex's bend is the net turn of the stretch around it. A spike or a jitter turns one way
-// and back and adds nothing; a curve drawn with many vertices keeps all of its turn, which the
-// turns between the simplified line's chords alone would cut short at its ends.
-func bendsDeg(xy []vec) []float64 {
+// one value per interior vertex so the bends stay aligned with the segments, and, for its
+// first and last point, how many vertices in from that end the line simplified within
+// BendToleranceM goes on to (Span.AwayFrom: the direction at the end's junction). It is the
+// one place that decides what of a drawn line is a bend and which way it leaves its ends.
+//
+// The vertices the simplified line keeps are its bends; every other vertex is 0, and its
+// turn (signed: left positive) goes to the nearest kept interior vertex along the line, so
+// that a kept vertex's bend is the net turn of the stretch around it. A spike or a jitter
+// turns one way and back and adds nothing; a curve drawn with many vertices keeps all of its
+// turn, which the turns between the simplified line's chords alone would cut short. The
+// first and last stretches turn from and to the simplified line's end chords, not the drawn
+// end segments, since the turns at the junctions are measured on those chords (TurnDeg):
+// a spike next to an end, whose way back is the junction itself, adds nothing either, and
+// the bends along a route and the turns at its junctions add up to the turn of the line
+// drawn.
+func bendsDeg(xy []vec) (bends []float64, near [2]int) {
 	if len(xy) <= 2 {
-		return nil
+		return nil, [2]int{1, 1}
 	}
 	kept := keptVertices(xy, BendToleranceM)
-	bends := make([]float64, len(xy)-2)
-	if len(kept) == 2 {
-		return bends
+	last, m := len(xy)-1, len(kept)
+	near = [2]int{kept[1], last - kept[m-2]}
+	bends = make([]float64, len(xy)-2)
+	if m == 2 {
+		return bends, near
 	}
 	along := make([]float64, len(xy))
 	for i := 1; i < len(xy); i++ {
 		along[i] = along[i-1] + xy[i].dist(xy[i-1])
 	}
+	turn := func(u, v vec) float64 { return math.Atan2(u.cross(v), u.dot(v)) / deg }
 	net := make([]float64, len(xy)) // by kept vertex: the signed turns of its stretch
-	k := 1                          // the kept vertex that vertex i's turn goes to, 1 ≤ k < len(kept)-1
+	k := 1                          // the kept vertex that vertex i's turn goes to, 1 ≤ k < m-1
 	for i := 1; i < len(xy)-1; i++ {
-		for k+1 < len(kept)-1 && along[kept[k+1]]-along[i] < along[i]-along[kept[k]] {
+		for k+1 < m-1 && along[kept[k+1]]-along[i] < along[i]-along[kept[k]] {
 			k++
 		}
-		u, v := xy[i].sub(xy[i-1]), xy[i+1].sub(xy[i])
-		net[kept[k]] += math.Atan2(u.cross(v), u.dot(v)) / deg
+		net[kept[k]] += turn(xy[i].sub(xy[i-1]), xy[i+1].sub(xy[i]))
 	}
-	for _, i := range kept[1 : len(kept)-1] {
+	// From the first chord into the first drawn segment, and from the last drawn segment into
+	// the last chord (a zero-length segment drawn at an end turns nowhere: the next one counts).
+	first, final := 1, last-1
+	for first < last && xy[first] == xy[0] {
+		first++
+	}
+	for final > 0 && xy[final] == xy[last] {
+		final--
+	}
+	net[kept[1]] += turn(xy[kept[1]].sub(xy[0]), xy[first].sub(xy[0]))
+	net[kept[m-2]] += turn(xy[last].sub(xy[final]), xy[last].sub(xy[kept[m-2]]))
+	for _, i := range kept[1 : m-1] {
 		bends[i-1] = math.Abs(net[i])
 	}
-	return bends
+	return bends, near
 }
 
 // keptVertices returns, in order, the indices of the vertices of xy that the Douglas–Peucker

@@ -145,12 +145,17 @@ func TestBendsDegDrawingNoise(t *testing.T) {
 		// The same with a 0.2 m chamfer, shorter than the tolerance: one vertex kept, its
 		// turn within 1° of 90° (the chamfer's 0.14 m offset over 20 m legs).
 		{"right angle with a 0.2 m chamfer", []float64{0, 0, 20 - 0.1*math.Sqrt2, 0, 20, 0.1 * math.Sqrt2, 20, 20}, 90, 1},
-		// A duct curving along a road: the line simplified keeps a vertex every 12°, and each
-		// takes the turns of the vertices around it, so the bends sum to the drawn line's
-		// 29 × 3° = 87° (its ends are chords, 1.5° off the circle's tangents).
-		{"quarter circle of radius 30 m", arc, 87, 0.01},
-		// The same radius 5 m, where the chords of the simplified line are shorter.
-		{"quarter circle of radius 5 m", scaled(arc, 5.0/30), 87, 0.01},
+		// A duct curving along a road: the line simplified keeps vertices 3, 7, …, 23, 26 (one
+		// every 12° of arc, 9° and 12° from the ends), and each takes the turns of the
+		// vertices around it, so the bends sum to the turn between the simplified line's end
+		// chords, which cut 9° and 12° of arc: 90° − 4.5° − 6° = 79.5° (plane geometry: a
+		// chord runs at half its arc's turn from the tangent at either end). The rest of the
+		// curve is turned at the junctions at its ends, measured on the same chords (TurnDeg;
+		// TestTurnsAndBendsAddUp).
+		{"quarter circle of radius 30 m", arc, 79.5, 0.01},
+		// The same radius 5 m: vertices 8, 15 and 22 kept, the end chords cut 24° each:
+		// 90° − 12° − 12° = 66°.
+		{"quarter circle of radius 5 m", scaled(arc, 5.0/30), 66, 0.01},
 		// A jog: two opposite 45° bends 2 m aside, far beyond the tolerance: 90° of bends
 		// (within 0.5°: the test grid's metres, at(), are not quite the projection's, which
 		// skews a diagonal a little; lines along the axes keep their angles).
@@ -202,5 +207,154 @@ func TestKeptVerticesAsOrb(t *testing.T) {
 		if !got.Equal(want) {
 			t.Fatalf("trial %d (tolerance %.2f m): kept %v, orb keeps %v", trial, tol, got, want)
 		}
+	}
+}
+
+func TestTurnDegDrawingNoise(t *testing.T) {
+	t.Parallel()
+	// A runs east into the junction at (100, 0), where B goes on north and C straight on east;
+	// a lateral from the south reaches the same point. A's last metres are drawn with noise
+	// within BendToleranceM of the line; on the drawn end segment each reads as a turn there
+	// (21.8° and 11.3°: the arc tangent of offset over length). Expectations are plane geometry on
+	// the test grid: the noise is no turn, so A → C is straight on, A → B and the lateral
+	// turns are right angles, and A bends nowhere (or, with a corner drawn, 90° there).
+	cases := []struct {
+		name      string
+		a         []float64
+		bendsDeg  float64
+		rawOffDeg float64 // what the drawn end segment reads, to show the case is one
+	}{
+		{"spike of 20 cm 0.5 m from the junction", []float64{0, 0, 99.5, 0.2, 100, 0}, 0, 21.8},
+		{"jitter of 10 cm every 0.5 m", []float64{0, 0, 97, 0, 97.5, 0.1, 98, -0.1, 98.5, 0.1, 99, -0.1, 99.5, 0.1, 100, 0}, 0, 11.3},
+		// Measured on the drawn segments, the corner's bend took the spike's turn too (66.9°)
+		// and the junction read 21.8°: the same 90° in all, in the wrong places.
+		{"corner, then a spike 0.5 m from the junction", []float64{0, -60, 0, 0, 99.5, 0.2, 100, 0}, 90, 21.8},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			n := build(t, &Campus{Pathways: []Pathway{
+				pw("A", ml(tc.a...)),
+				pw("B", ml(100, 0, 100, 80)),
+				pw("C", ml(100, 0, 200, 0)),
+			}})
+			id := map[string]string{}
+			for _, s := range n.Spans {
+				id[s.PathwayID] = s.ID
+			}
+			sa, _ := n.Span(id["A"])
+			if raw := turnAt(sa.Line[len(sa.Line)-2], sa.Line[len(sa.Line)-1], at(200, 0)); math.Abs(raw-tc.rawOffDeg) > 0.1 {
+				t.Fatalf("the drawn end segment reads %.2f°, want %.1f° (the case is not the one meant)", raw, tc.rawOffDeg)
+			}
+			lateral := orb.LineString{at(100, -20), at(100, 0)}
+			for _, c := range []struct {
+				what string
+				got  float64
+				want float64
+			}{
+				{"A straight on into C", n.TurnDeg(Step{SpanID: id["A"]}, Step{SpanID: id["C"]}), 0},
+				{"A turning into B", n.TurnDeg(Step{SpanID: id["A"]}, Step{SpanID: id["B"]}), 90},
+				{"C back into A", n.TurnDeg(Step{SpanID: id["C"], Reverse: true}, Step{SpanID: id["A"], Reverse: true}), 0},
+				{"the lateral into A, westward", n.LateralTurnDeg(lateral, Step{SpanID: id["A"], Reverse: true}, true), 90},
+				{"out of A into the lateral", n.LateralTurnDeg(lateral, Step{SpanID: id["A"]}, false), 90},
+			} {
+				if math.Abs(c.got-c.want) > 0.05 {
+					t.Errorf("%s: %.3f°, want %.0f°", c.what, c.got, c.want)
+				}
+			}
+			sum := 0.0
+			for _, b := range sa.BendsDeg {
+				sum += b
+			}
+			if math.Abs(sum-tc.bendsDeg) > 0.05 {
+				t.Errorf("A's bends sum to %.3f° (%v), want %.0f°", sum, sa.BendsDeg, tc.bendsDeg)
+			}
+		})
+	}
+}
+
+func TestTurnDegSpikeAtSplit(t *testing.T) {
+	t.Parallel()
+	// A vertex of A within snap_m of another pathway's vertex is that junction (Build), so a
+	// spike right beside a junction survives only where A ends on the middle of a segment: A
+	// from the south onto street S, drawn with a vertex 1 cm aside 2 cm before its end, which
+	// the drawn end segment reads as 26.6° off north (116.6° into S east). Into S east or west
+	// is a right angle.
+	n := build(t, &Campus{Pathways: []Pathway{
+		pw("A", ml(100, -60, 100.01, -0.02, 100, 0)),
+		pw("S", ml(0, 0, 200, 0)),
+	}})
+	var a Span
+	var east, west string
+	for _, s := range n.Spans {
+		switch {
+		case s.PathwayID == "A":
+			a = s
+		case s.PathwayID == "S" && s.Line[0] == at(0, 0):
+			west = s.ID
+		case s.PathwayID == "S":
+			east = s.ID
+		}
+	}
+	if len(a.Line) != 3 || east == "" || west == "" {
+		t.Fatalf("spans %s, A drawn %v: want A's spike kept and S split where A ends", spanIDs(n), a.Line)
+	}
+	if raw := turnAt(a.Line[1], a.Line[2], at(200, 0)); math.Abs(raw-116.6) > 0.1 {
+		t.Fatalf("the drawn end segment into S east reads %.2f°, want 116.6° (the case is not the one meant)", raw)
+	}
+	for _, c := range []struct {
+		what string
+		to   Step
+	}{{"into S east", Step{SpanID: east}}, {"into S west", Step{SpanID: west, Reverse: true}}} {
+		if got := n.TurnDeg(Step{SpanID: a.ID}, c.to); math.Abs(got-90) > 0.05 {
+			t.Errorf("A %s: %.3f°, want 90°", c.what, got)
+		}
+	}
+}
+
+func TestTurnsAndBendsAddUp(t *testing.T) {
+	t.Parallel()
+	// A quarter circle of radius 30 m drawn with a vertex every 3° of arc, as one pathway and
+	// as three that meet at its 10th and 20th vertices. Along the three, the bends and the
+	// turns at the two junctions add up to the turn between the route's first and last chords
+	// of the simplified lines (Span.AwayFrom): what the end chords of a span leave out of a
+	// curve is turned at the junction, not lost and not counted twice.
+	var arc []float64
+	for a := 0; a <= 90; a += 3 {
+		r := float64(a) * math.Pi / 180
+		arc = append(arc, 30*math.Sin(r), 30-30*math.Cos(r))
+	}
+	n := build(t, &Campus{Pathways: []Pathway{
+		pw("P1", ml(arc[:22]...)), pw("P2", ml(arc[20:42]...)), pw("P3", ml(arc[40:]...)),
+	}})
+	var steps []Step
+	var sum float64
+	for _, p := range []string{"P1", "P2", "P3"} {
+		for _, s := range n.Spans {
+			if s.PathwayID == p {
+				steps = append(steps, Step{SpanID: s.ID})
+				for _, b := range s.BendsDeg {
+					sum += b
+				}
+			}
+		}
+	}
+	if len(steps) != 3 {
+		t.Fatalf("spans %s, want three", spanIDs(n))
+	}
+	for k := 1; k < 3; k++ {
+		sum += n.TurnDeg(steps[k-1], steps[k])
+	}
+	first, _ := n.Span(steps[0].SpanID)
+	last, _ := n.Span(steps[2].SpanID)
+	heading := func(a, b orb.Point) float64 { return math.Atan2(b[1]-a[1], (b[0]-a[0])*math.Cos(a[1]*deg)) / deg }
+	want := heading(last.AwayFrom(true), last.Line[len(last.Line)-1]) - heading(first.Line[0], first.AwayFrom(false))
+	if math.Abs(sum-want) > 0.05 {
+		t.Errorf("bends and turns along the arc add up to %.3f°, want %.3f° (between the end chords)", sum, want)
+	}
+	// An end chord cuts at most 15° of arc (five segments of 3°: their inner vertices lie
+	// 30 × (cos 1.5° − cos 7.5°) = 0.247 m off it, within BendToleranceM; six would put one
+	// 0.41 m off), so at least 90° − 7.5° − 7.5° of the quarter circle is counted.
+	if want < 75-0.05 || want > 90 {
+		t.Errorf("the end chords turn %.3f° from each other, want 75° to 90°", want)
 	}
 }

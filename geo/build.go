@@ -1084,19 +1084,16 @@ func (b *builder) spans(n *Network) {
 			seq[p.pw]++
 			id = pw.ID + "/" + strconv.Itoa(seq[p.pw])
 		}
-		var bends []float64
-		if len(pc.pts) > 2 {
-			xy := make([]vec, len(pc.pts))
-			for i, p := range pc.pts {
-				xy[i] = b.proj.xy(p)
-			}
-			bends = bendsDeg(xy)
+		xy := make([]vec, len(pc.pts))
+		for i, p := range pc.pts {
+			xy[i] = b.proj.xy(p)
 		}
+		bends, near := bendsDeg(xy)
 		n.Spans = append(n.Spans, Span{
 			ID: id, PathwayID: pw.ID, From: b.ids[pc.from], To: b.ids[pc.to],
 			LengthM: LengthM(pc.pts), Type: pw.Type, Status: pw.Status, EMI: pw.EMI,
 			Surface: pw.Surface, Method: pw.Method, MethodSet: pw.MethodSet, Plenum: pw.Plenum, Group: pw.Group, SpareDucts: pw.SpareDucts, DuctMM: pw.DuctMM,
-			BendsDeg: bends, Line: pc.pts,
+			BendsDeg: bends, Line: pc.pts, near: near,
 		})
 	}
 	sort.Slice(n.Spans, func(i, j int) bool { return n.Spans[i].ID < n.Spans[j].ID })

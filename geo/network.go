@@ -57,6 +57,10 @@ type Span struct {
 	// (0 is straight on, 90 a right-angle turn).
 	BendsDeg []float64
 	Line     orb.LineString // From → To
+	// near holds, for the From and the To end, how many vertices in from that end is the
+	// first vertex that the line simplified within BendToleranceM keeps (bendsDeg); 0 for a
+	// span not made by Build, taken as 1 (AwayFrom).
+	near [2]int
 }
 
 // Access says how a building reaches the network.

@@ -85,7 +85,8 @@ func (b *builder) cutAtWalls(n *Network) {
 			for i, p := range kept {
 				xy[i] = b.proj.xy(p)
 			}
-			sp.Line, sp.LengthM, sp.BendsDeg = kept, LengthM(kept), bendsDeg(xy)
+			sp.Line, sp.LengthM = kept, LengthM(kept)
+			sp.BendsDeg, sp.near = bendsDeg(xy)
 			b.rep[r] = wall
 			if b.cutIn == nil {
 				b.cutIn = make(map[string][]int)

@@ -470,15 +470,17 @@ func tieName(kind int, bearingDeg float64, id string) string {
 }
 
 // bearingAt is the direction in which span i leaves junction j, in degrees from east,
-// counterclockwise, in [0, 360): from j to the span's next vertex, on a local flat projection.
+// counterclockwise, in [0, 360): from j along the span's line simplified within
+// geo.BendToleranceM (geo.Span.AwayFrom, as the turns there are measured), on a local flat
+// projection.
 func bearingAt(net *geo.Network, i int, j string) float64 {
 	sp := &net.Spans[i]
 	if len(sp.Line) < 2 {
 		return 0
 	}
-	at, next := sp.Line[0], sp.Line[1]
+	at, next := sp.Line[0], sp.AwayFrom(false)
 	if sp.From != j {
-		at, next = sp.Line[len(sp.Line)-1], sp.Line[len(sp.Line)-2]
+		at, next = sp.Line[len(sp.Line)-1], sp.AwayFrom(true)
 	}
 	dx := (next[0] - at[0]) * math.Cos(at[1]*math.Pi/180)
 	deg := math.Atan2(next[1]-at[1], dx) * 180 / math.Pi

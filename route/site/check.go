@@ -4,8 +4,6 @@ import (
 	"slices"
 	"sort"
 	"spanwright/geo"
-
-	"gonum.org/v1/gonum/graph/topo"
 )
 
 // CheckReport is what `spanwright check` prints about a campus.
@@ -16,7 +14,7 @@ type CheckReport struct {
 	Structures  int
 	Junctions   int
 	Spans       int
-	Components  int      // connected components of the pathway network that hold a building
+	Components  int      // separate pieces of the pathway network that hold a building (Site.pieces)
 	Hub         string   // "" when none could be resolved
 	Unreachable []string // buildings with no path to the hub
 	CutOff      []string // for each of Unreachable, in its order, why (Site.CutOff)
@@ -82,19 +80,7 @@ func (s *Site) Check(hub string) CheckReport {
 		}
 		return a.Status < b.Status
 	})
-	withBuilding := map[int64]bool{}
-	for _, a := range s.Net.Access {
-		n, _ := s.Graph.NodeOf(a.Junction)
-		withBuilding[n] = true
-	}
-	for _, comp := range topo.ConnectedComponents(s.Graph) {
-		for _, n := range comp {
-			if withBuilding[n.ID()] {
-				r.Components++
-				break
-			}
-		}
-	}
+	r.Components = s.pieces()
 	if hub == "" {
 		hub = s.MainCrossConnect()
 	}
@@ -144,4 +130,20 @@ func (s *Site) ThroughFor(r *CheckReport, links []Link) {
 			r.Through = append(r.Through, s.Through(l.To, l.From))
 		}
 	}
+}
+
+// pieces counts the separate pieces of the pathway network that hold buildings: the parts
+// (components, entrances joined) that some entrance of some building is in. Every entrance
+// counts, as for Joined and the distances between buildings: a building whose second
+// entrance is on a lateral that joins nothing is in one piece with the network its first
+// entrance is on, not in a piece of its own, and whichever entrance the plan uses (Access)
+// changes nothing.
+func (s *Site) pieces() int {
+	seen := map[int]bool{}
+	for _, b := range s.Campus.Buildings {
+		for _, p := range s.partsOf(b.ID) {
+			seen[p] = true
+		}
+	}
+	return len(seen)
 }

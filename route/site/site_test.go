@@ -416,3 +416,47 @@ func TestThroughNamesOnlyInTheWay(t *testing.T) {
 		})
 	}
 }
+
+func TestCheckPiecesEveryEntrance(t *testing.T) {
+	t.Parallel()
+	// B has two entrances: S-B on the street and B-L2, a lateral drawn from 60 m north and
+	// joined to nothing, which Build picks as B's one access (TestLinksNearestOverAnyEntrance).
+	// B is in the street's piece of the network through S-B: the campus is in one piece, as
+	// Joined and the distances between buildings say. Counting one access per building made
+	// it two (the street, through A, C, D and E; B-L2, through B).
+	const lat = 52.0
+	degX := func(m float64) float64 { return -1 + m/(111320*math.Cos(lat*math.Pi/180)) }
+	degY := func(m float64) float64 { return lat + m/111000 }
+	line := func(id string, x0, y0, x1, y1 float64) string {
+		return fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":%q},"geometry":{"type":"LineString","coordinates":[[%.7f,%.7f],[%.7f,%.7f]]}}`,
+			id, degX(x0), degY(y0), degX(x1), degY(y1))
+	}
+	names, at := []string{"A", "C", "D", "B", "E"}, []float64{0, 100, 400, 500, 600}
+	cases := []struct {
+		name   string
+		extra  string
+		pieces int
+		off    []string
+	}{
+		{"second entrance on a dangling lateral", line("B-L2", 505, 60, 505, 25), 1, nil},
+		// F's only pathway joins nothing: a piece of its own, however many entrances others have.
+		{"and a building cut off", line("B-L2", 505, 60, 505, 25) + `,` +
+			fmt.Sprintf(`{"type":"Feature","properties":{"kind":"building","id":"F"},"geometry":{"type":"Polygon","coordinates":[[[%.7f,%.7f],[%.7f,%.7f],[%.7f,%.7f],[%.7f,%.7f],[%.7f,%.7f]]]}}`,
+				degX(800), degY(60), degX(820), degY(60), degX(820), degY(80), degX(800), degY(80), degX(800), degY(60)) + `,` +
+			line("F-L", 810, 120, 810, 70), 2, []string{"F"}},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			s := lineCampus(t, names, at, map[string]string{"A": "mc"}, tc.extra)
+			if a := s.Access("B").Junction; !slices.ContainsFunc(s.Net.Spans, func(sp geo.Span) bool {
+				return sp.PathwayID == "B-L2" && (sp.From == a || sp.To == a)
+			}) {
+				t.Fatalf("B's access is %s, not on B-L2 (the case this test is about)", a)
+			}
+			r := s.Check("")
+			if r.Components != tc.pieces || !slices.Equal(r.Unreachable, tc.off) {
+				t.Errorf("pieces %d, off the hub's %q; want %d, %q", r.Components, r.Unreachable, tc.pieces, tc.off)
+			}
+		})
+	}
+}
