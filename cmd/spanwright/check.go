@@ -75,10 +75,14 @@ func runCheck(ctx context.Context, args []string, db string, maxBytes int64, opt
 	// Everything plan rejects before routing, check rejects too (route.Check, which NoDiverse
 	// runs first), after the report; the diverse links plan would leave with one route go into it.
 	var planErr error
-	if p != nil && rep.Hub != "" {
+	if p != nil {
 		eng, err := plan.Engine(p)
-		if err == nil {
+		switch {
+		case err != nil:
+		case rep.Hub != "":
 			rep.NoDiverse, err = route.NoDiverse(st, p, eng)
+		default:
+			err = route.Check(st, p, eng) // no hub: its problem is among plan's
 		}
 		planErr = err
 	}

@@ -310,3 +310,21 @@ func TestCheckDiverseAsPlan(t *testing.T) {
 		})
 	}
 }
+
+// TestCheckNoHubAsPlan: a plan that names no hub on a campus without an mc building, with a
+// misspelt rate, is refused by check as by plan (exit 2, both problems named): check ran the
+// plan's own checks only once it had a hub, and passed it. The project's own rule (README,
+// check rejects what plan rejects before routing): no outside source.
+func TestCheckNoHubAsPlan(t *testing.T) {
+	path := "testdata/plans/nohub.yaml"
+	_, planMsg, planCode := run(t, "plan", path, "--out", t.TempDir())
+	_, checkMsg, checkCode := run(t, "check", path)
+	if planCode != exitInvalid || checkCode != exitInvalid {
+		t.Fatalf("plan exit %d, check exit %d, want %d for both (%s; %s)", planCode, checkCode, exitInvalid, planMsg, checkMsg)
+	}
+	for _, want := range []string{"hub: missing", `rate "7Q"`} {
+		if !strings.Contains(checkMsg, want) || !strings.Contains(planMsg, want) {
+			t.Errorf("%q: check said %q, plan said %q; want it in both", want, checkMsg, planMsg)
+		}
+	}
+}

@@ -196,20 +196,30 @@ func (l *Problems) Add(err error) {
 	l.List = append(l.List, p)
 }
 
-// Len is the number of problems found, kept or dropped.
 // AddNew is Add for problems that may have been found already by another check: each
 // problem of err (one, or every one of a *Problems) is added unless l holds one of the same
-// text.
+// text. The texts l holds are looked up in a set, so adding many to many stays linear.
 func (l *Problems) AddNew(err error) {
 	var more Problems
 	more.Add(err)
+	if len(more.List) == 0 {
+		l.Dropped += more.Dropped
+		return
+	}
+	kept := make(map[string]bool, len(l.List)+len(more.List))
+	for _, p := range l.List {
+		kept[p.Error()] = true
+	}
 	for _, q := range more.List {
-		if !slices.ContainsFunc(l.List, func(p *Problem) bool { return p.Error() == q.Error() }) {
+		if t := q.Error(); !kept[t] {
+			kept[t] = true
 			l.Add(q)
 		}
 	}
 	l.Dropped += more.Dropped
 }
+
+// Len is the number of problems found, kept or dropped.
 
 func (l *Problems) Len() int { return len(l.List) + l.Dropped }
 
