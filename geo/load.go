@@ -844,7 +844,7 @@ func enumHint(allowed []string, got string) string {
 		known[a] = true
 	}
 	if h := input.DidYouMean(got, known); h != "" {
-		return ";" + h
+		return fmt.Sprintf("; did you mean %q?", strings.TrimSuffix(strings.TrimPrefix(h, " did you mean "), "?"))
 	}
 	return ""
 }

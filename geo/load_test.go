@@ -33,7 +33,7 @@ func TestParseBad(t *testing.T) {
 		{"unknown_kind.geojson", `unknown_kind.geojson: feature #0 "T-1": property "kind": want one of "building", "pathway", "structure", "entrance", got string "tree"`, ErrBadValue, false},
 		{"unknown_type.geojson", `unknown_type.geojson: feature #1 "P-1": property "type": want one of "duct", "tunnel", "aerial", "buried", "tray", got string "conduit"`, ErrBadValue, false},
 		{"case_type.geojson", `case_type.geojson: feature #1 "P-1": property "type": want one of "duct", "tunnel", "aerial", "buried", "tray", got string "Tunnel"; did you mean "tunnel"? (letter case matters)`, ErrBadValue, false},
-		{"typo_type.geojson", `typo_type.geojson: feature #1 "P-1": property "type": want one of "duct", "tunnel", "aerial", "buried", "tray", got string "aerail"; did you mean aerial?`, ErrBadValue, false},
+		{"typo_type.geojson", `typo_type.geojson: feature #1 "P-1": property "type": want one of "duct", "tunnel", "aerial", "buried", "tray", got string "aerail"; did you mean "aerial"?`, ErrBadValue, false},
 		{"unknown_status.geojson", `unknown_status.geojson: feature #1 "P-1": property "status": want one of "existing", "proposed", got string "planned"`, ErrBadValue, false},
 		{"unknown_emi.geojson", `unknown_emi.geojson: feature #1 "P-1": property "emi": want one of "none", "low", "high", got string "medium"`, ErrBadValue, false},
 		{"plenum_on_duct.geojson", `plenum_on_duct.geojson: feature #1 "P-1": property "plenum": want true only on a tray pathway (type "tray"); this one is "duct"`, ErrBadValue, false},

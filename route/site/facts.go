@@ -2,11 +2,14 @@ package site
 
 import (
 	"cmp"
+	"container/heap"
 	"fmt"
+	"math"
 	"slices"
 	"strings"
 
 	"spanwright/geo"
+	"spanwright/geo/input"
 )
 
 // components labels every junction (by index in Net.Junctions) with its connected part of the
@@ -158,7 +161,8 @@ func (s *Site) Through(b, hub string) string {
 	if len(in) == 0 { // not joined to the hub at all: name what the search met
 		_, in = s.search(b, hub)
 	}
-	list := strings.Join(in, ", ")
+	shown, more := input.Shown(in, maxInTheWay)
+	list := strings.Join(shown, ", ") + more
 	them, one := "them", "one of them"
 	if len(in) == 1 {
 		them, one = in[0], in[0]
@@ -173,37 +177,115 @@ func (s *Site) Through(b, hub string) string {
 		"or serve it from %s (role ic, and a link from it)", b, hub, list, geo.PropTransit, b, transit, b, one)
 }
 
+// maxInTheWay is the most buildings in the way a reason names (a row of buildings each
+// reached through the one before would otherwise make the reasons grow with its square).
+const maxInTheWay = 10
+
 // inTheWay lists, sorted, the buildings a route from building b to the hub must cross: not
 // every building the search from b meets (a building at the end of a spur is met and is in
-// nobody's way), but a smallest set of them (none can be left out) that, crossed, lets a route
-// reach the hub. The search crosses the buildings it meets layer by layer until it reaches
-// the hub, then leaves out, one at a time in order, each it can do without. Nil when no set
-// would do (b is cut off: CutOff).
+// nobody's way), but those of a route that crosses the fewest (a building is crossed at a
+// junction inside it, or in at one entrance and out at another, as walk's cross lets it).
+// One search over the junctions, each pass through a building counted once (Dijkstra by the
+// buildings crossed, ties by junction order): on a row of buildings each reached only through
+// the one before, the old leave-one-out search grew with the cube of the row's length. Nil when
+// no route reaches the hub even crossing every building (b is cut off: CutOff).
 func (s *Site) inTheWay(b, hub string) []string {
-	reaches := func(cross []string) (bool, []string) {
-		seen, met := s.walk(b, hub, nil, cross)
-		return seen.any(s, s.Net.EntrancesOf(hub)), met
-	}
-	var cross []string
-	for {
-		ok, met := reaches(cross)
-		if ok {
-			break
+	adj := s.spanAdjacency()
+	n := len(s.Net.Junctions)
+	closed := func(x string) bool {
+		if x == b || x == hub {
+			return false
 		}
-		if len(met) == len(cross) { // nothing new met: crossing every building met does not do
-			return nil
-		}
-		cross = met // met grows: a building crossed is met again
+		t, ok := s.Net.TransitOf(x)
+		return !ok || !t.Allowed
 	}
-	for i := 0; i < len(cross); {
-		without := slices.Delete(slices.Clone(cross), i, i+1)
-		if ok, _ := reaches(without); ok {
-			cross = without
-		} else {
-			i++
+	goal := make([]bool, n)
+	for _, e := range s.Net.EntrancesOf(hub) {
+		goal[s.junction[e.Junction]] = true
+	}
+	best := make([]int, n)
+	for i := range best {
+		best[i] = math.MaxInt
+	}
+	pred := make([]int32, n)
+	done := make([]bool, n)
+	h := &crossHeap{}
+	relax := func(k, d int, from int32) {
+		if d < best[k] {
+			best[k], pred[k] = d, from
+			heap.Push(h, crossItem{d, int32(k)})
 		}
 	}
-	return cross
+	linked := func(x string, d int, from int32) { // in at one entrance of x, out at another
+		for _, e := range s.Net.EntrancesOf(x) {
+			relax(s.junction[e.Junction], d, from)
+		}
+	}
+	linked(b, 0, -1)
+	for h.Len() > 0 {
+		it := heap.Pop(h).(crossItem)
+		j := int(it.j)
+		if done[j] {
+			continue
+		}
+		done[j] = true
+		if goal[j] {
+			var out []string
+			for k := pred[j]; k >= 0; k = pred[k] {
+				if m, ok := s.Net.MeetingAt(s.Net.Junctions[k].ID); ok {
+					for _, x := range m.Buildings {
+						if closed(x) && !slices.Contains(out, x) {
+							out = append(out, x)
+						}
+					}
+				}
+			}
+			slices.Sort(out)
+			return out
+		}
+		d := it.d
+		var crossed []string
+		if m, ok := s.Net.MeetingAt(s.Net.Junctions[j].ID); ok {
+			for _, x := range m.Buildings {
+				if closed(x) {
+					crossed = append(crossed, x)
+				}
+			}
+		}
+		d += len(crossed)
+		for _, k := range adj.to[adj.start[j]:adj.start[j+1]] {
+			relax(int(k), d, int32(j))
+		}
+		for _, x := range crossed {
+			linked(x, d, int32(j))
+		}
+		if m, ok := s.Net.MeetingAt(s.Net.Junctions[j].ID); ok && slices.Contains(m.Buildings, b) {
+			linked(b, it.d, int32(j))
+		}
+	}
+	return nil
+}
+
+// crossItem is a junction and the buildings crossed to reach it, for inTheWay's search.
+type crossItem struct {
+	d int
+	j int32
+}
+
+// crossHeap orders crossItems by buildings crossed, then by junction index.
+type crossHeap []crossItem
+
+func (h crossHeap) Len() int { return len(h) }
+func (h crossHeap) Less(a, b int) bool {
+	return h[a].d < h[b].d || h[a].d == h[b].d && h[a].j < h[b].j
+}
+func (h crossHeap) Swap(a, b int) { h[a], h[b] = h[b], h[a] }
+func (h *crossHeap) Push(x any)   { *h = append(*h, x.(crossItem)) }
+func (h *crossHeap) Pop() any {
+	old := *h
+	x := old[len(old)-1]
+	*h = old[:len(old)-1]
+	return x
 }
 
 // Apart says why no route joins buildings a and b, when the network is the cause: a is cut
