@@ -423,7 +423,8 @@ type Summary struct {
 	OverBudgetCents *int64   `json:"over_budget_cents"`
 	OverBudgetPct   *float64 `json:"over_budget_pct"`
 	// ModelCents is the legs' costs summed (each leg's bill items priced one by one, its
-	// share of new trench and added duct; no building panels or enclosures, no markups): the
+	// share of new trench, added duct, handholes and the building entrances it uses; no
+	// building panels or enclosures, no markups): the
 	// cost model the routes were chosen by (README, "One cost model"), not a price.
 	ModelCents int64 `json:"model_cents"`
 	// ObjectiveCents is what the optimizer minimised for these routes (route.Result

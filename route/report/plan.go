@@ -567,7 +567,7 @@ func costBars(r *route.Result) ([]bar, string) {
 		cats = []cat{
 			{"cable", cable, "c-cable"},
 			{"labour", labour, "c-labour"},
-			{"construction (trench, added duct)", constr, "c-constr"},
+			{"construction (trench, added duct, entrances)", constr, "c-constr"},
 			{"optics and terminations", optics, "c-optics"},
 		}
 		if r.ExtraCents != 0 {
