@@ -947,8 +947,12 @@ func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
 		fmt.Fprintln(w, m)
 	}
 	fmt.Fprintf(w, "turns       %s where a turn between pathways needs a structure built\n", Counted(len(r.Turns), "junction", "junctions"))
-	if len(r.Turns) > 0 {
-		fmt.Fprintf(w, "  %s\n", escape.TerminalList(r.Turns))
+	for i, id := range r.Turns {
+		if i == len(r.TurnPoints) {
+			break
+		}
+		// Six decimals of a degree: about 0.1 m, enough to find the junction on a map.
+		fmt.Fprintf(w, "  %s at %.6f, %.6f (longitude, latitude)\n", t(id), r.TurnPoints[i][0], r.TurnPoints[i][1])
 	}
 	fmt.Fprintf(w, "near misses %d\n", len(r.NearMisses))
 	for _, m := range r.NearMisses {

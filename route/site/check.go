@@ -1,6 +1,7 @@
 package site
 
 import (
+	"github.com/paulmach/orb"
 	"slices"
 	"sort"
 	"spanwright/geo"
@@ -34,6 +35,9 @@ type CheckReport struct {
 	// Turns lists the junctions where a turn from one pathway into another needs a structure
 	// built (Site.TurnsNeedingStructure).
 	Turns []string
+	// TurnPoints are the Turns' junction points (longitude, latitude), in the same order, so
+	// that check can say where each is.
+	TurnPoints []orb.Point
 	// NearMisses lists the pathway ends that just miss a pathway or footprint (geo.NearMiss).
 	NearMisses []string
 	Warnings   []string
@@ -97,6 +101,10 @@ func (s *Site) Check(hub string) CheckReport {
 	}
 	r.Entrances = s.Net.Entrances
 	r.Turns = s.TurnsNeedingStructure()
+	for _, id := range r.Turns {
+		j, _ := s.Net.Junction(id)
+		r.TurnPoints = append(r.TurnPoints, j.Point)
+	}
 	for _, m := range s.Net.NearMisses {
 		r.NearMisses = append(r.NearMisses, m.String())
 	}
