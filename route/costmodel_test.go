@@ -427,8 +427,8 @@ func objectiveOf(r *route.Result, prob *optimize.Problem, pb *media.PriceBook, l
 	}
 	for _, f := range r.Fill {
 		e := &prob.Edges[index[f.Span]]
-		c += int64(f.AddedDucts) * int64(math.Round(e.LengthM*float64(e.AddDuctPerMCents)))
-		if f.AddedDucts > 0 {
+		if f.AddedDucts > 0 { // the trench once, laid with the ducts added or the design's, whichever is more
+			c += int64(max(f.AddedDucts, e.AddTrenchDucts)) * int64(math.Round(e.LengthM*float64(e.AddDuctPerMCents)))
 			c += int64(math.Round(e.LengthM*float64(e.AddTrenchPerMCents))) + e.AddTrenchCents
 		}
 	}

@@ -965,7 +965,7 @@ func (r *run) construction() {
 		if f.AddedDucts > 0 {
 			sp, _ := s.Net.Span(f.Span)
 			c.newWork(design, &sp, items.MethodOf(r.Engine.PriceBook(), design, &sp), r.newFrom, fromSpan(f.Span))
-			c.AddedDuctM += float64(f.AddedDucts) * sp.LengthM
+			c.AddedDuctM += float64(items.TrenchDucts(design, f.AddedDucts)) * sp.LengthM
 			r.newFrom[keyAddedDuct] = append(r.newFrom[keyAddedDuct], fromSpan(f.Span))
 			if n := items.AddedDuctWalls(builtAt, &sp); n > 0 {
 				c.AddedDuctWalls += n

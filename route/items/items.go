@@ -182,6 +182,16 @@ func NewDucts(d plan.Design, idMM float64, cableODsMM []float64) int {
 	return n
 }
 
+// TrenchDucts is how many ducts a trench or bore beside a full duct span is laid with when
+// the plan adds added ducts there: those, or the design's (NewDucts without a size), whichever
+// is more. The optimizer prices them so (optimize.Edge.AddTrenchDucts) and the bill lays them.
+func TrenchDucts(d plan.Design, added int) int {
+	if added <= 0 {
+		return 0
+	}
+	return max(added, NewDucts(d, 0, nil))
+}
+
 // Opening is what opening a proposed span built by method takes: its new work, and the
 // design's ducts (plan.Design.NewDucts, at least one) when it is a duct. The bill lays more
 // where the cables need them (NewDucts); the optimizer, which prices opening a span before
