@@ -317,3 +317,44 @@ func (b DuctBank) fillOK(odMM float64, n int) bool {
 	}
 	return used <= FillOverTwoCablesPct/100*DuctAreaMM2(b.IDMM)
 }
+
+// DuctsFor is the fewest ducts of internal diameter idMM (mm) that a bank built to size needs
+// so that Assign places every cable of the given outside diameters (mm) that an empty duct
+// takes: first fit decreasing with a new duct opened whenever no open one takes the cable
+// (Load.Takes, NFPA 70 Chapter 9 Table 1 fill and its jam band). Assign on a bank of that many
+// ducts runs the same first fit decreasing and so places the same cables. A cable no empty
+// duct takes opens none (it is left unplaced however many ducts there are). The count is at
+// most MaxBankDucts; it is 0 for no cables and for invalid input. Time O(n log n + n·k) for
+// n cables and k ducts.
+func DuctsFor(idMM float64, cableODsMM []float64) int {
+	if !finite(idMM) || idMM <= 0 {
+		return 0
+	}
+	ods := slices.Clone(cableODsMM)
+	for _, od := range ods {
+		if !finite(od) || od <= 0 {
+			return 0
+		}
+	}
+	sort.SliceStable(ods, func(x, y int) bool { return ods[x] > ods[y] })
+	var loads []Load
+	for _, od := range ods {
+		placed := false
+		for d := range loads {
+			if loads[d].Takes(idMM, od) {
+				loads[d].Add(od)
+				placed = true
+				break
+			}
+		}
+		if placed || len(loads) == MaxBankDucts {
+			continue
+		}
+		var l Load
+		if l.Takes(idMM, od) {
+			l.Add(od)
+			loads = append(loads, l)
+		}
+	}
+	return len(loads)
+}

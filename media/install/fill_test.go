@@ -366,3 +366,55 @@ func TestLoadTakes(t *testing.T) {
 		}
 	}
 }
+
+// TestDuctsFor checks a bank built to size against NFPA 70 Chapter 9 Table 1 (one cable 53 %,
+// two 31 %, over two 40 % of the duct's area; Informational Note No. 2: three cables whose
+// ratio of duct ID to cable OD lies in 2.8–3.2 can jam, with the 1.05 ovality factor, common
+// practice, no published source), and against Assign: with the count it gives, Assign places
+// every cable an empty duct takes; with one duct fewer it does not.
+func TestDuctsFor(t *testing.T) {
+	rep := func(od float64, n int) []float64 { return slices.Repeat([]float64{od}, n) }
+	for _, tc := range []struct {
+		name string
+		idMM float64
+		ods  []float64
+		want int
+	}{
+		{"no cables", 100, nil, 0},
+		{"one 33 mm innerduct", 100, rep(33, 1), 1},
+		// Two fill 21.8 % (<= 31 %); a third fills 32.7 % (<= 40 %) but 1.05·100/33 = 3.18 jams.
+		{"three 33 mm innerducts, jam band", 100, rep(33, 3), 2},
+		{"five 33 mm innerducts", 100, rep(33, 5), 3},
+		// Three 25 mm: 1.05·100/25 = 4.2, no jam; 18.75 % fill. Forty 10 mm fill 40 % exactly.
+		{"three 25 mm cables in one duct", 100, rep(25, 3), 1},
+		{"fifty 10 mm cables, forty to a duct", 100, rep(10, 50), 2},
+		// 33²/40² = 68 % is over the 53 % one cable may fill: no duct takes it.
+		{"too large for any duct", 40, rep(33, 3), 0},
+		// Two 15 mm fill 2·15²/40² = 28 % (<= 31 %).
+		{"one too large, two fit one duct", 40, []float64{33, 15, 15}, 1},
+		{"no diameter", 0, rep(10, 2), 0},
+		{"bad cable", 100, []float64{10, -1}, 0},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			got := DuctsFor(tc.idMM, tc.ods)
+			if got != tc.want {
+				t.Fatalf("%s: DuctsFor = %d, want %d", tc.name, got, tc.want)
+			}
+			if got == 0 {
+				return
+			}
+			fitAlone := 0
+			for _, od := range tc.ods {
+				if FitsDuct(tc.idMM, od, nil) {
+					fitAlone++
+				}
+			}
+			if a := (DuctBank{Ducts: got, IDMM: tc.idMM}).Assign(tc.ods); len(tc.ods)-a.Unplaced != fitAlone {
+				t.Errorf("%s: %d ducts place %d cables, want the %d an empty duct takes", tc.name, got, len(tc.ods)-a.Unplaced, fitAlone)
+			}
+			if a := (DuctBank{Ducts: got - 1, IDMM: tc.idMM}).Assign(tc.ods); len(tc.ods)-a.Unplaced == fitAlone {
+				t.Errorf("%s: %d ducts, one fewer, place them all too", tc.name, got-1)
+			}
+		})
+	}
+}

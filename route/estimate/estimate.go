@@ -197,6 +197,18 @@ type Construction struct {
 	// AssumedSurface.
 	Assumed        []AssumedWork
 	AssumedSurface string
+	// SizedDucts are the opened duct spans built to size: those whose cables need more ducts
+	// than the design lays (items.NewDucts), in the order the plan opened them. Their ducts
+	// are all in AddedDuctM, laid in the span's one trench or bore.
+	SizedDucts []SizedDucts
+}
+
+// SizedDucts is an opened duct span that gets more ducts than the design's new_ducts:
+// Ducts in all, Design of them the design's (at least one).
+type SizedDucts struct {
+	Span          string
+	Ducts, Design int
+	LengthM       float64
 }
 
 // AssumedWork is new trench priced on an assumed surface: what it is for (a bill source,
@@ -245,6 +257,9 @@ type run struct {
 	newFrom map[string][]string
 	// runHH holds the handholes along new construction by span ID, at metres from its From end.
 	runHH map[string][]float64
+	// newDucts holds the ducts each opened duct span that carries cable gets
+	// (items.NewDucts), decided once in ductFill and billed from here in construction.
+	newDucts map[string]int
 }
 
 // Keys of run.newFrom beside the trench surfaces.
@@ -717,15 +732,18 @@ func (r *run) ductFill() {
 			pack(&sp, bank.Ducts, f.Ducts, bank.Pull(ods), ods, "")
 		}
 	}
-	// The ducts of new construction: the design's, every one new (items.Opening). The
-	// optimizer does not limit them, so there is no order of its to follow: the largest
-	// cables go in first (install.DuctBank.Assign, by the same Load.Takes); a plan whose
-	// cables overflow them says so.
+	// The ducts of new construction, built to size: the design's or as many as its cables
+	// need, whichever is more (items.NewDucts), every one new. The optimizer does not limit
+	// them, so there is no order of its to follow: the largest cables go in first
+	// (install.DuctBank.Assign, by the same Load.Takes, which items.NewDucts sized for). Only
+	// a cable no empty duct takes is left out.
+	r.newDucts = map[string]int{}
 	for _, id := range r.Opened {
 		if sp, _ := r.Site.Net.Span(id); sp.Type == geo.TypeDuct && sp.DuctMM > 0 && len(bySpan[id]) > 0 {
 			ods := cables(id, nil)
-			bank := install.DuctBank{Ducts: max(design.NewDucts, 1), IDMM: sp.DuctMM}
-			pack(&sp, bank.Ducts, 0, bank.Assign(ods), ods, "; raise design.new_ducts")
+			r.newDucts[id] = items.NewDucts(design, sp.DuctMM, ods)
+			bank := install.DuctBank{Ducts: r.newDucts[id], IDMM: sp.DuctMM}
+			pack(&sp, bank.Ducts, 0, bank.Assign(ods), ods, "; each too large for an empty duct (one cable: 53 % fill)")
 		}
 	}
 }
@@ -902,7 +920,12 @@ func (r *run) construction() {
 		sp, _ := s.Net.Span(id)
 		c.newWork(design, &sp, items.MethodOf(r.Engine.PriceBook(), design, &sp), r.newFrom, fromSpan(id))
 		if sp.Type == geo.TypeDuct {
-			c.AddedDuctM += float64(max(design.NewDucts, 1)) * sp.LengthM // items.Opening
+			n, own := items.NewDucts(design, 0, nil), r.newDucts[id] // items.Opening, built to size
+			if own > n {
+				c.SizedDucts = append(c.SizedDucts, SizedDucts{Span: id, Ducts: own, Design: n, LengthM: sp.LengthM})
+				n = own
+			}
+			c.AddedDuctM += float64(n) * sp.LengthM
 			r.newFrom[keyAddedDuct] = append(r.newFrom[keyAddedDuct], fromSpan(id))
 		}
 	}
@@ -920,7 +943,7 @@ func (r *run) construction() {
 		}
 		lat := &geo.Span{Type: geo.TypeDuct, LengthM: en.LateralM}
 		c.newWork(design, lat, items.MethodOf(r.Engine.PriceBook(), design, lat), r.newFrom, fromEntrance(en))
-		c.AddedDuctM += float64(max(design.NewDucts, 1)) * en.LateralM
+		c.AddedDuctM += float64(items.NewDucts(design, 0, nil)) * en.LateralM // no duct size: the design's
 		c.LateralM += en.LateralM
 		r.newFrom[keyAddedDuct] = append(r.newFrom[keyAddedDuct], fromEntrance(en))
 	}
@@ -942,7 +965,7 @@ func (r *run) construction() {
 		if f.AddedDucts > 0 {
 			sp, _ := s.Net.Span(f.Span)
 			c.newWork(design, &sp, items.MethodOf(r.Engine.PriceBook(), design, &sp), r.newFrom, fromSpan(f.Span))
-			c.AddedDuctM += float64(f.AddedDucts) * sp.LengthM
+			c.AddedDuctM += float64(items.TrenchDucts(design, f.AddedDucts)) * sp.LengthM
 			r.newFrom[keyAddedDuct] = append(r.newFrom[keyAddedDuct], fromSpan(f.Span))
 			if n := items.AddedDuctWalls(builtAt, &sp); n > 0 {
 				c.AddedDuctWalls += n

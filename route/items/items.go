@@ -6,6 +6,7 @@ import (
 
 	"spanwright/geo"
 	"spanwright/media"
+	"spanwright/media/install"
 	"spanwright/route/plan"
 	"spanwright/route/site"
 )
@@ -167,14 +168,40 @@ func JoinHandholes(n int) media.Quantity {
 		Unit: media.UnitEach, Amount: float64(n), Price: media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole}}
 }
 
+// NewDucts is how many ducts new construction of a duct pathway of internal diameter idMM
+// (mm) gets when it carries cables of the given outside diameters (mm; innerducts where the
+// design places them): built to size, the design's ducts (plan.Design.NewDucts, at least one)
+// or as many as its cables need (install.DuctsFor: NFPA 70 Chapter 9 Table 1 fill and its jam
+// band, the rule the fill rows check), whichever is more. All are laid in the one trench or
+// bore. Without a diameter (idMM 0, as a counted lateral) it is the design's ducts.
+func NewDucts(d plan.Design, idMM float64, cableODsMM []float64) int {
+	n := max(d.NewDucts, 1)
+	if idMM > 0 {
+		n = max(n, install.DuctsFor(idMM, cableODsMM))
+	}
+	return n
+}
+
+// TrenchDucts is how many ducts a trench or bore beside a full duct span is laid with when
+// the plan adds added ducts there: those, or the design's (NewDucts without a size), whichever
+// is more. The optimizer prices them so (optimize.Edge.AddTrenchDucts) and the bill lays them.
+func TrenchDucts(d plan.Design, added int) int {
+	if added <= 0 {
+		return 0
+	}
+	return max(added, NewDucts(d, 0, nil))
+}
+
 // Opening is what opening a proposed span built by method takes: its new work, and the
-// design's ducts (plan.Design.NewDucts, at least one) when it is a duct. The handholes along
+// design's ducts (plan.Design.NewDucts, at least one) when it is a duct. The bill lays more
+// where the cables need them (NewDucts); the optimizer, which prices opening a span before
+// it knows its cables, does not (README, "One cost model"). The handholes along
 // its run are RunHandholes; those where it joins the network are charges of their junctions,
 // paid once however many opened spans meet there (package routing, layout).
 func Opening(d plan.Design, sp *geo.Span, method string) []media.Quantity {
 	q := NewWork(d, sp, method, sp.LengthM)
 	if sp.Type == geo.TypeDuct {
-		q = append(q, AddedDuct(float64(max(d.NewDucts, 1))*sp.LengthM))
+		q = append(q, AddedDuct(float64(NewDucts(d, 0, nil))*sp.LengthM))
 	}
 	return q
 }

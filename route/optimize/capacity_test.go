@@ -148,6 +148,40 @@ func TestAddedDuctTrenchOnce(t *testing.T) {
 	}
 }
 
+// TestAddedDuctTrenchDucts checks a trench beside a full duct bank laid with at least
+// AddTrenchDucts ducts (a new trench gets the design's ducts: common practice, no published
+// source): one 36 mm cable needs one added 50 mm duct (NFPA 70 Chapter 9 Table 1: 53 % of a
+// 50 mm duct holds one 36 mm cable), but the trench is laid with two, 2 × 50 m × 10.00 plus
+// 50 m × 20.00, 2000.00; three cables need three ducts, three paid, 2500.00.
+func TestAddedDuctTrenchDucts(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		name   string
+		cables int
+		want   int64
+	}{
+		{"one cable, two ducts laid", 1, 2*50*1000 + 50*2000},
+		{"three cables, three ducts laid", 3, 3*50*1000 + 50*2000},
+	} {
+		edges := capNet(0, 1000)
+		edges[0].AddTrenchPerMCents, edges[0].AddTrenchDucts = 2000, 2
+		edges[2].LabourPerMCents, edges[3].LabourPerMCents = 10000, 10000 // the long way round is dearer
+		p := &Problem{Nodes: 4, Edges: edges, Demands: capDemands(tc.cables, 36)}
+		sol, err := Solve(p, Settings{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		verify(t, tc.name, p, sol)
+		var ducts int64
+		for _, r := range sol.Routes {
+			ducts += r.Cost.AddedDuctCents
+		}
+		if ducts != tc.want {
+			t.Errorf("%s: added-duct cents %d, want %d", tc.name, ducts, tc.want)
+		}
+	}
+}
+
 // TestCableMetresAndPerCableCents checks the two per-edge cost fields a caller prices itself:
 // an option pays its cable over CableM, not LengthM, and every cable pays PerCableCents, on
 // top of labour per metre (the package documentation's cost, computed by hand).

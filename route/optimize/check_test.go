@@ -188,8 +188,8 @@ func verifyErr(p *Problem, sol *Solution) error {
 		if len(users[f.Edge]) != f.Cables {
 			return fmt.Errorf("edge %d: fill says %d cables, routes put %d", f.Edge, f.Cables, len(users[f.Edge]))
 		}
-		wantDucts += int64(f.AddedDucts) * int64(math.Round(p.Edges[f.Edge].LengthM*float64(p.Edges[f.Edge].AddDuctPerMCents)))
-		if f.AddedDucts > 0 {
+		if f.AddedDucts > 0 { // the trench once, laid with the ducts added or AddTrenchDucts, whichever is more
+			wantDucts += int64(max(f.AddedDucts, p.Edges[f.Edge].AddTrenchDucts)) * int64(math.Round(p.Edges[f.Edge].LengthM*float64(p.Edges[f.Edge].AddDuctPerMCents)))
 			wantDucts += int64(math.Round(p.Edges[f.Edge].LengthM*float64(p.Edges[f.Edge].AddTrenchPerMCents))) + p.Edges[f.Edge].AddTrenchCents
 		}
 		if f.Limited && f.UsedAreaMM2 > f.AllowedAreaMM2+1e-6 && f.AddedDucts == 0 && p.Fits == nil {

@@ -10,8 +10,8 @@
 //	Σ demands Σ legs Σ edges   round(CableM × CablePerMCents) + round(LengthM × LabourPerMCents) + PerCableCents
 //	+ Σ opened proposed edges FixedCents (paid once, however many cables use the edge)
 //	+ Σ paid charges           Charge.Cents (once, however many of its edges and cables)
-//	+ Σ added ducts            round(LengthM × AddDuctPerMCents)
-//	+ Σ edges with added ducts round(LengthM × AddTrenchPerMCents) + AddTrenchCents (once per edge)
+//	+ Σ edges with added ducts max(added, AddTrenchDucts) × round(LengthM × AddDuctPerMCents)
+//	                           + round(LengthM × AddTrenchPerMCents) + AddTrenchCents (once per edge)
 //	+ Σ demands                Option.FixedCents (+ Option.SecondLegCents with a diverse pair)
 //
 // A charge (Problem.Charges) is paid when at least one leg of any demand uses at least one

@@ -225,7 +225,7 @@ func (sv *solver) ascendFrom(free []int64) *dualBound {
 	}
 	for e := range p.Edges {
 		if ed := &p.Edges[e]; sized && sv.limited[e] && ed.Ducts == 0 && ed.AddDuctPerMCents > 0 {
-			db.budget[e] += sv.ductCent[e] + sv.trenchCent[e]
+			db.budget[e] += sv.ductsCents(e, 1)
 		}
 	}
 	db.rem = slices.Clone(db.budget)

@@ -5,6 +5,8 @@ import (
 	"fmt"
 	"math"
 	"strings"
+
+	"spanwright/media/install"
 )
 
 // Edge flags that an Option may exclude through Option.ExcludeFlags. Bits above these are free
@@ -67,6 +69,10 @@ type Edge struct {
 	// with it: the wall penetrations where the added ducts enter buildings through walls the
 	// full ducts already enter.
 	AddTrenchCents int64
+	// AddTrenchDucts is the fewest ducts that trench is laid with, each at AddDuctPerMCents:
+	// k added ducts cost max(k, AddTrenchDucts) ducts (0 or 1: just the ducts added). In
+	// [0, install.MaxBankDucts].
+	AddTrenchDucts int
 }
 
 // limited reports whether the edge's capacity is checked.
@@ -287,6 +293,9 @@ func validate(p *Problem, s Settings) error {
 		}
 		if e.AddTrenchCents < 0 || e.AddTrenchCents > maxFixedCents {
 			bad("%s: added-duct trench ends: want cents in [0, %d], got %d", name, int64(maxFixedCents), e.AddTrenchCents)
+		}
+		if e.AddTrenchDucts < 0 || e.AddTrenchDucts > install.MaxBankDucts {
+			bad("%s: ducts in an added-duct trench: want [0, %d], got %d", name, install.MaxBankDucts, e.AddTrenchDucts)
 		}
 		if e.AddDuctPerMCents < 0 || e.AddDuctPerMCents > maxPerMCents {
 			bad("%s: add-duct price per metre: want cents in [0, %d], got %d", name, int64(maxPerMCents), e.AddDuctPerMCents)

@@ -348,12 +348,13 @@ func (sv *solver) remove(d int) choice {
 
 // holdsLastDuct reports whether taking a cable of area areaMM2 out of limited edge e would
 // likely save a duct: the last duct of the flushed packing was added and holds no more cable.
-// ductsCents is what k added ducts on edge e cost: k ducts, and the trench once.
+// ductsCents is what k added ducts on edge e cost: the trench once, laid with k ducts or the
+// edge's AddTrenchDucts, whichever is more.
 func (sv *solver) ductsCents(e, k int) int64 {
 	if k <= 0 {
 		return 0
 	}
-	return int64(k)*sv.ductCent[e] + sv.trenchCent[e]
+	return int64(max(k, sv.p.Edges[e].AddTrenchDucts))*sv.ductCent[e] + sv.trenchCent[e]
 }
 
 // nextDuctCents is what one more added duct on edge e costs now.

@@ -93,7 +93,7 @@ func gpkgLayers() []gpkgout.Layer {
 			Columns: []gpkgout.Column{
 				c("span", tx, "span id"), c("pathway", tx, "pathway id"), c("work", tx, "opened (a proposed pathway), added duct, or lateral (to an entrance)"),
 				c("method", tx, "trench or bore"), c("surface", tx, "surface trenched and restored; none for a bore"),
-				c("length_m", re, "length of new work, metres"), c("added_ducts", in, "ducts added beside an existing span (0 for opened)"),
+				c("length_m", re, "length of new work, metres"), c("added_ducts", in, "ducts laid beside an existing span, at least design.new_ducts (0 for opened)"),
 				c("entrance", tx, "for work lateral: the entrance whose counted lateral is built"),
 			}},
 		{Name: LayerStructures, Geometry: gpkgout.Point,
@@ -251,7 +251,7 @@ func planLayers(ctx context.Context, r *route.Result) ([]gpkgout.Layer, error) {
 	}
 	for _, f := range r.Fill {
 		if f.AddedDucts > 0 {
-			works = append(works, work{f.Span, WorkAddedDuct, f.AddedDucts})
+			works = append(works, work{f.Span, WorkAddedDuct, items.TrenchDucts(r.Design(), f.AddedDucts)}) // as billed
 		}
 	}
 	slices.SortStableFunc(works, func(a, b work) int {

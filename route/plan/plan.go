@@ -132,7 +132,7 @@ type Design struct {
 	PullMaxSWBPNPerM    float64 `yaml:"pull_max_swbp_n_per_m"`  // most sidewall bearing pressure at a bend, N/m; 0: not checked
 
 	// New construction: how a proposed pathway is built when the plan opens it.
-	NewDucts         int     `yaml:"new_ducts"`          // ducts laid in each new trench or bore of a duct pathway
+	NewDucts         int     `yaml:"new_ducts"`          // ducts laid in each new trench or bore of a duct pathway, at least (items.NewDucts)
 	HandholeSpacingM float64 `yaml:"handhole_spacing_m"` // most metres between pull points along new construction; 0 for no limit
 	// AssumedSurface is the surface new work is priced on where the campus gives none: a
 	// pathway without "surface" (every trench beside an existing duct whose pathway has none)

@@ -263,6 +263,7 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 			if d.AllowNewTrench && m.prices.Check(items.KeysOf(append(work, items.AddedDuct(1)))) == nil && m.perM(items.AddedDuct(1)) > 0 {
 				e.AddDuctPerMCents = m.perM(items.AddedDuct(1))
 				e.AddTrenchPerMCents = m.perM(append(work, m.bidItems(media.BidBases{NewBuriedM: 1})...)...)
+				e.AddTrenchDucts = items.NewDucts(d, 0, nil) // the trench is laid with the design's ducts at least (items.TrenchDucts)
 				// The ducts enter a building through a wall the full ones already enter: a
 				// penetration of their own, paid with the trench.
 				e.AddTrenchCents = m.cents(items.AddedDuctEntrances(m.prices, items.AddedDuctWalls(builtAt, sp))...)
