@@ -252,6 +252,18 @@ func (s *Site) walk(from, hub string, also, cross []string) (reached, []string) 
 			ends[y] = append(ends[y], x)
 		}
 	}
+	// A building opened as if marked transit: the pathway ends that met inside it, parted at
+	// its walls because it is not (geo.Transit.Parted), are one junction again.
+	for _, b := range also {
+		t, _ := s.Net.TransitOf(b)
+		for _, g := range t.Parted {
+			for i := 1; i < len(g); i++ {
+				x, y := s.junction[g[i-1]], s.junction[g[i]]
+				ends[x] = append(ends[x], y)
+				ends[y] = append(ends[y], x)
+			}
+		}
+	}
 	seen := make(reached, len(s.Net.Junctions))
 	var queue []int
 	var met []string
