@@ -104,8 +104,8 @@ func runCheck(ctx context.Context, args []string, db string, maxBytes int64, opt
 			output.Counted(len(rep.ThroughOnly), "building reaches", "buildings reach"), escape.Terminal(rep.Hub), escape.TerminalList(rep.ThroughOnly)))
 	}
 	if len(rep.NoDiverse) > 0 {
-		cannot = append(cannot, fmt.Sprintf("%s no second route, as plan would find: %s",
-			output.Counted(len(rep.NoDiverse), "diverse link has", "diverse links have"), escape.Terminal(strings.Join(rep.NoDiverse, "; "))))
+		cannot = append(cannot, fmt.Sprintf("%s no second route, as plan would find, listed above",
+			output.Counted(len(rep.NoDiverse), "diverse link has", "diverse links have")))
 	}
 	if len(cannot) > 0 {
 		return fmt.Errorf("%w: %s", route.ErrInfeasible, strings.Join(cannot, "; "))
