@@ -105,13 +105,13 @@ func (b *builder) cutAtWalls(n *Network) {
 	texts := make([]string, len(cuts))
 	for i, c := range cuts {
 		total += c.cutM
-		texts[i] = fmt.Sprintf("%s %.1f m in %s", c.pw, c.cutM, c.building)
+		texts[i] = fmt.Sprintf("%s %s m in %s", c.pw, shortM(c.cutM), c.building)
 	}
 	shown, more := input.Shown(texts, 10)
 	first := b.pathway(cuts[0].pw)
 	b.warns = append(b.warns, warnRec{first.Source, first.ID, fmt.Sprintf(
-		"%d pathway ends drawn through a building's wall to a point inside it are cut at the wall, %.1f m in all not counted as route, cable or trench (riser_m takes the cable from the entrance to the telecom room): %s%s",
-		len(cuts), total, strings.Join(shown, ", "), more)})
+		"%d pathway ends drawn through a building's wall to a point inside it are cut at the wall, %s m in all not counted as route, cable or trench (riser_m takes the cable from the entrance to the telecom room): %s%s",
+		len(cuts), shortM(total), strings.Join(shown, ", "), more)})
 }
 
 // wallCrossing cuts line (its last point inside footprint f, its first outside) at the last
@@ -279,7 +279,7 @@ func (b *builder) splitInside() {
 	slices.SortFunc(split, func(x, y parted) int { return strings.Compare(x.building+"\x00"+x.pws, y.building+"\x00"+y.pws) })
 	texts := make([]string, len(split))
 	for i, s := range split {
-		texts[i] = fmt.Sprintf("%s %.1f m inside %s", s.pws, s.insideM, s.building)
+		texts[i] = fmt.Sprintf("%s %s m inside %s", s.pws, shortM(s.insideM), s.building)
 	}
 	shown, more := input.Shown(texts, 10)
 	b.warns = append(b.warns, warnRec{split[0].src, split[0].first, fmt.Sprintf(
@@ -303,4 +303,14 @@ func (b *builder) insideOne(r int, in map[int][]int) (int, bool) {
 		return -1, false
 	}
 	return bs[0], true
+}
+
+// shortM prints a length cut off or inside a building: to 0.1 m, or to the centimetre below
+// 1 m, where 0.514 m rounded to "0.5" would read as exactly snap_m (default 0.5 m) though it is
+// more.
+func shortM(m float64) string {
+	if m < 0.995 {
+		return fmt.Sprintf("%.2f", m)
+	}
+	return fmt.Sprintf("%.1f", m)
 }

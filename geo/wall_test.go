@@ -231,3 +231,17 @@ func TestEntranceInside(t *testing.T) {
 		})
 	}
 }
+
+// TestShortM: lengths below a metre keep their centimetres, so 0.514 m cut off does not read as
+// the default snap_m, 0.5 m, which is not cut.
+func TestShortM(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		m    float64
+		want string
+	}{{0.514, "0.51"}, {0.5, "0.50"}, {0.996, "1.0"}, {10.04, "10.0"}, {12.06, "12.1"}} {
+		if got := shortM(tc.m); got != tc.want {
+			t.Errorf("shortM(%v) = %q, want %q", tc.m, got, tc.want)
+		}
+	}
+}
