@@ -165,18 +165,6 @@ func (b *builder) cutOff(id string, p orb.Point) bool {
 // far end of each piece outside the footprint, the line crossing its wall); one warning per
 // building names the pathways parted. A structure drawn at the meeting point keeps them joined.
 func (b *builder) splitInside() {
-	cluster := make(map[int][]int) // root → its members
-	for i := range b.mem {
-		r := b.find(i)
-		cluster[r] = append(cluster[r], i)
-	}
-	ends := make(map[int][]int) // root → indices of the pieces with an end there
-	for k, pc := range b.pieces {
-		ends[pc.from] = append(ends[pc.from], k)
-		if pc.to != pc.from {
-			ends[pc.to] = append(ends[pc.to], k)
-		}
-	}
 	in := make(map[int][]int) // root → the buildings (index) with a footprint door there
 	for bi := range b.c.Buildings {
 		for _, d := range b.doors[bi] {
@@ -185,13 +173,37 @@ func (b *builder) splitInside() {
 			}
 		}
 	}
+	if len(in) == 0 {
+		return
+	}
+	ends := make(map[int][]int) // root in a footprint → indices of the pieces with an end there
+	for k, pc := range b.pieces {
+		if _, ok := in[pc.from]; ok {
+			ends[pc.from] = append(ends[pc.from], k)
+		}
+		if _, ok := in[pc.to]; ok && pc.to != pc.from {
+			ends[pc.to] = append(ends[pc.to], k)
+		}
+	}
 	roots := make([]int, 0, len(ends))
 	for r, ks := range ends {
 		if len(ks) >= 2 && !b.labeled[r] {
 			roots = append(roots, r)
 		}
 	}
+	if len(roots) == 0 {
+		return
+	}
 	slices.Sort(roots)
+	cluster := make(map[int][]int, len(roots)) // candidate root → its members
+	for _, r := range roots {
+		cluster[r] = nil
+	}
+	for i := range b.mem {
+		if ms, ok := cluster[b.find(i)]; ok {
+			cluster[b.find(i)] = append(ms, i)
+		}
+	}
 	type parted struct {
 		building, pws string
 		insideM       float64
