@@ -101,7 +101,7 @@ func BuildContext(ctx context.Context, c *Campus, opt Options) (*Network, error)
 		return nil, &b.errs
 	}
 	n := &Network{}
-	steps = []func(){b.cut, b.number, func() { b.spans(n) }, func() { b.cutAtWalls(n) }, func() { b.junctions(n) }, func() { b.access(n) }, func() { b.entrances(n) }, func() { b.facts(n) }}
+	steps = []func(){b.cut, b.splitInside, b.number, func() { b.spans(n) }, func() { b.cutAtWalls(n) }, func() { b.junctions(n) }, func() { b.access(n) }, func() { b.entrances(n) }, func() { b.facts(n) }}
 	if err := runSteps(ctx, steps); err != nil {
 		return nil, err
 	}
@@ -236,6 +236,7 @@ type builder struct {
 	pieces  []piece
 	rep     map[int]orb.Point // root → junction point
 	cutIn   map[string][]int  // pathway ID → the buildings (index) where cutAtWalls cut an end of it
+	parted  map[int][][]int   // building index → the members splitInside parted, per meeting point
 	ids     map[int]string    // root → junction ID
 	buf     []int32
 }
@@ -739,12 +740,18 @@ func (b *builder) planEntrance(bi int, bl Building, ents []int) accessPlan {
 		// An entrance is where cables go through the building's wall. One declared away from
 		// the footprint (a mistyped coordinate, another building's id) ends every route
 		// there, the cable, the loss budget and the bill short of the building: say so.
+		// One declared inside the footprint takes routes that far into the building, counted
+		// as outside plant (route, cable, trench): say so too.
 		for _, ei := range ents {
-			if d := f.distTo(b.mem[b.entMem[ei]].xy); d > entranceOffM {
-				e := b.c.Entrances[ei]
+			xy, e := b.mem[b.entMem[ei]].xy, b.c.Entrances[ei]
+			if d := f.distTo(xy); d > entranceOffM {
 				b.warns = append(b.warns, warnRec{e.Source, b.entIDs[ei], fmt.Sprintf(
 					"entrance %q of building %q is %.1f m from the building's footprint: routes to it end there, and the cable from it to the wall is not counted; move it to the wall, or check its building",
 					b.entIDs[ei], bl.ID, d)})
+			} else if _, in := f.nearestBoundary(xy); d == 0 && in > entranceOffM {
+				b.warns = append(b.warns, warnRec{e.Source, b.entIDs[ei], fmt.Sprintf(
+					"entrance %q of building %q is %.1f m inside the building's footprint: routes to it run that far into the building and count it as outside plant (route, cable, trench); move it to the wall",
+					b.entIDs[ei], bl.ID, in)})
 			}
 		}
 	}

@@ -428,14 +428,15 @@ func TestBuildAccess(t *testing.T) {
 
 func TestBuildFootprintPicksBusiestEnd(t *testing.T) {
 	t.Parallel()
-	// Two pathway ends in the footprint: a dead-end spur (1 span) and the end where two
-	// pathways meet (2 spans); the busier one wins.
+	// Two pathway ends on the footprint's walls: a dead-end spur (1 span) and the end where
+	// two pathways meet (2 spans); the busier one wins. (Ends meeting farther inside than
+	// snap_m are parted, TestSplitInside.)
 	c := Campus{
-		Buildings: []Building{box("B", 0, 0, 20)},
+		Buildings: []Building{box("B", 0, 0, 10)},
 		Pathways: []Pathway{
 			pw("SPUR", ml(-10, 0, -100, 0)),
 			pw("A", ml(10, 0, 100, 0)),
-			pw("C", ml(10, 0, 10, -100)),
+			pw("C", ml(10, 0, 100, -100)),
 		},
 	}
 	n := build(t, &c)

@@ -64,6 +64,10 @@ type Transit struct {
 	Allowed  bool     // Marked, or some pathway is drawn inside the building
 	Marked   bool     // the building's "transit" property is true
 	Interior []string // IDs of the pathways inside the building, sorted
+	// Parted lists, for each point inside the building where pathway ends met and were parted
+	// because the building is not marked (splitInside), the junctions at the walls where those
+	// pathways now end, sorted; transit: true would keep them one junction. Sorted by first ID.
+	Parted [][]string
 }
 
 // NearMiss is a dangling pathway end (one joined to nothing) that lies near a pathway or a
@@ -518,6 +522,15 @@ func (b *builder) transit(n *Network) {
 			b.through(bl.ID, f, pws, partsOf)
 		}
 		sort.Strings(t.Interior)
+		for _, rs := range b.parted[bi] {
+			ids := make([]string, len(rs))
+			for i, r := range rs {
+				ids[i] = b.ids[b.find(r)]
+			}
+			sort.Strings(ids)
+			t.Parted = append(t.Parted, ids)
+		}
+		sort.Slice(t.Parted, func(i, j int) bool { return t.Parted[i][0] < t.Parted[j][0] })
 		t.Allowed = t.Marked || len(t.Interior) > 0
 		n.Transit = append(n.Transit, t)
 	}

@@ -870,7 +870,13 @@ func (f *feature) num(key string, def float64, r input.Range) float64 {
 	}
 	n, isNum := v.(json.Number)
 	if !isNum {
-		f.add(key, problemf(ErrWrongType, "want %s, got %s", r, describe(v)))
+		hint := ""
+		if t, ok := v.(string); ok {
+			if _, err := strconv.ParseFloat(strings.TrimSpace(t), 64); err == nil {
+				hint = " (write numbers without quotes)"
+			}
+		}
+		f.add(key, problemf(ErrWrongType, "want %s, got %s%s", r, describe(v), hint))
 		return def
 	}
 	x, err := strconv.ParseFloat(string(n), 64)

@@ -41,7 +41,7 @@ func TestParseBad(t *testing.T) {
 		{"unknown_method.geojson", `unknown_method.geojson: feature #1 "P-1": property "method": want one of "trench", "bore", got string "tunnel-boring"`, ErrBadValue, false},
 		{"unknown_surface.geojson", `unknown_surface.geojson: feature #1 "P-1": property "surface": want one of "turf", "asphalt", "concrete", got string "gravel"`, ErrBadValue, false},
 		{"unknown_role.geojson", `unknown_role.geojson: feature #0 "B-1": property "role": want one of "mc", "ic", got string "hub"`, ErrBadValue, false},
-		{"wrong_property_type.geojson", `wrong_property_type.geojson: feature #0 "B-1": property "riser_m": want metres from 0 to 1000, got string "15"`, ErrWrongType, false},
+		{"wrong_property_type.geojson", `wrong_property_type.geojson: feature #0 "B-1": property "riser_m": want metres from 0 to 1000, got string "15" (write numbers without quotes)`, ErrWrongType, false},
 		{"wrong_geometry.geojson", `wrong_geometry.geojson: feature #0 "B-1": geometry: want Polygon or MultiPolygon for a building, got LineString`, ErrBadGeometry, false},
 		{"missing_geometry.geojson", `missing_geometry.geojson: feature #0 "P-1": geometry: missing (null or absent)`, ErrMissingProperty, false},
 		// JSON has no NaN or Infinity literal; 1e999 is valid JSON that overflows a float64.

@@ -250,10 +250,11 @@ func TestOneUsableEntrance(t *testing.T) {
 	t.Parallel()
 	campus := collection(testsite.Box("A", "mc", 50, 50), testsite.Box("B", "", 250, 50),
 		duct("S", 0, 0, 50, 0, 250, 0, 300, 0), duct("N", 0, 100, 50, 100, 250, 100, 300, 100),
-		// B's usable entrance takes a duct from each street at one point; its other entrance
-		// is the stub's end.
+		// B's usable entrance takes a duct from each street at one point, a vault drawn in
+		// its basement (H5; without it the two ducts are parted, each cut at its own wall,
+		// TestSplitInside); its other entrance is the stub's end.
 		duct("LA1", 50, 0, 50, 45), duct("LA2", 50, 100, 50, 55), duct("LB1", 250, 0, 250, 45), duct("LB2", 250, 100, 250, 45),
-		duct("STUB", 255, 55, 275, 80), handhole("H1", 50, 0), handhole("H2", 50, 100), handhole("H3", 250, 0), handhole("H4", 250, 100))
+		duct("STUB", 255, 55, 275, 80), handhole("H1", 50, 0), handhole("H2", 50, 100), handhole("H3", 250, 0), handhole("H4", 250, 100), handhole("H5", 250, 45))
 	r, err := testplan.PullSolveJSON(t, campus, diverse("B"))
 	if err != nil {
 		t.Fatal(err)

@@ -74,6 +74,9 @@ func runCheck(ctx context.Context, args []string, db string, maxBytes int64, opt
 	}
 	// Everything plan rejects before routing, check rejects too (route.Check, which NoDiverse
 	// runs first), after the report; the diverse links plan would leave with one route go into it.
+	if p != nil && rep.Hub != "" && !p.Design.AllowNewTrench {
+		rep.OnlyProposed = st.OnlyOverProposed(rep.Hub)
+	}
 	var planErr error
 	if p != nil {
 		eng, err := plan.Engine(p)
@@ -107,9 +110,13 @@ func runCheck(ctx context.Context, args []string, db string, maxBytes int64, opt
 		cannot = append(cannot, fmt.Sprintf("%s the hub %s only through another building routes may not cross: %s",
 			output.Counted(len(rep.ThroughOnly), "building reaches", "buildings reach"), escape.Terminal(rep.Hub), escape.TerminalList(rep.ThroughOnly)))
 	}
+	if len(rep.OnlyProposed) > 0 {
+		cannot = append(cannot, fmt.Sprintf("%s the hub %s only over proposed pathways (design.allow_new_trench: false): %s",
+			output.Counted(len(rep.OnlyProposed), "building reaches", "buildings reach"), escape.Terminal(rep.Hub), escape.TerminalList(rep.OnlyProposed)))
+	}
 	if len(rep.NoDiverse) > 0 {
-		cannot = append(cannot, fmt.Sprintf("%s no second route, as plan would find: %s",
-			output.Counted(len(rep.NoDiverse), "diverse link has", "diverse links have"), escape.Terminal(strings.Join(rep.NoDiverse, "; "))))
+		cannot = append(cannot, fmt.Sprintf("%s no second route, as plan would find, listed above",
+			output.Counted(len(rep.NoDiverse), "diverse link has", "diverse links have")))
 	}
 	if len(cannot) > 0 {
 		return fmt.Errorf("%w: %s", route.ErrInfeasible, strings.Join(cannot, "; "))

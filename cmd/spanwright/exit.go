@@ -44,7 +44,10 @@ var exitStatuses = []exitStatus{
 		"for sweep and merge a scenario that failed, for merge rows that do not make one whole sweep; running the same command again cannot succeed",
 		append([]string{""}, allCommands...)},
 	{exitInfeasible, "finished, but some links are infeasible (listed with their reasons; everything else is written)",
-		[]string{"check", "plan", "sweep", "merge"}},
+		[]string{"plan", "sweep", "merge"}},
+	{exitInfeasible, "checked, but a plan would leave some links infeasible: buildings that cannot reach the hub " +
+		"or reach it only through a building routes may not cross, diverse links with no second route (listed in the report above)",
+		[]string{"check"}},
 	{exitEnvironment, "the machine refused: an output could not be written (disk full, quota, no permission, " +
 		"read-only file system, --out names a file) or an input not read (no permission, I/O error); " +
 		"the same command may succeed once that is put right",

@@ -301,8 +301,10 @@ func TestCheckDiverseAsPlan(t *testing.T) {
 				t.Fatalf("%s: plan names no diverse leg without a route:\n%s", tc.plan, planOut)
 			}
 			want := "building " + tc.building + ", " + leg
-			if !strings.Contains(checkMsg, want) {
-				t.Errorf("%s: check's error says\n%s\nwant %q", tc.plan, checkMsg, want)
+			// The error counts the links and points to the report, as plan's does (a campus
+			// can have dozens, each with a long reason; tester: 9,173 characters on one line).
+			if c := "1 diverse link has no second route, as plan would find, listed above"; !strings.Contains(checkMsg, c) || strings.Contains(checkMsg, leg) {
+				t.Errorf("%s: check's error says\n%s\nwant %q, without the reason", tc.plan, checkMsg, c)
 			}
 			if !strings.Contains(checkOut, "diverse     1 diverse link has no second route, however planned:\n  "+want+"\n") {
 				t.Errorf("%s: check's report lacks the link:\n%s", tc.plan, checkOut)

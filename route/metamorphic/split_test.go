@@ -31,6 +31,27 @@ func angleDeg(u, w [2]float64) float64 {
 	return math.Acos(max(-1, min(1, c))) * 180 / math.Pi
 }
 
+// inBuilding reports whether point p lies inside the outer ring of a building of fs (ray
+// casting on lon/lat, enough at campus scale).
+func inBuilding(fs []campusgen.Feature, p [2]float64) bool {
+	for _, f := range fs {
+		if f.Geometry != "Polygon" || len(f.Coords) == 0 {
+			continue
+		}
+		in, r := false, f.Coords[0]
+		for i, j := 0, len(r)-1; i < len(r); j, i = i, i+1 {
+			a, b := r[i], r[j]
+			if (a[1] > p[1]) != (b[1] > p[1]) && p[0] < (b[0]-a[0])*(p[1]-a[1])/(b[1]-a[1])+a[0] {
+				in = !in
+			}
+		}
+		if in {
+			return true
+		}
+	}
+	return false
+}
+
 // bendAndSplit draws one street of fs, picked by r, bent at an interior vertex: the vertex
 // moved aside by 60 % of its shorter segment (and every feature's point there with it), away
 // from the pathways that join the street there; that is the bent campus. It returns it and the
@@ -132,7 +153,13 @@ func bendAndSplit(fs []campusgen.Feature, r *rand.Rand, wantJoin bool) (bent, sp
 				continue
 			}
 			o := local(v, [2]float64{v[0] + 1e-3, v[1] + 1e-3}) // metres per 1e-3 degree, east and north
-			moved[v] = []float64{v[0] + nv[0]*1e-3/o[0], v[1] + nv[1]*1e-3/o[1]}
+			to := [2]float64{v[0] + nv[0]*1e-3/o[0], v[1] + nv[1]*1e-3/o[1]}
+			if inBuilding(fs, to) {
+				// Two features meeting inside a building are two service ducts through its
+				// walls, each cut at its own (README, wall cut), not one duct drawn in pieces.
+				continue
+			}
+			moved[v] = []float64{to[0], to[1]}
 			fixed[l[k]], fixed[l[k+2]] = true, true
 			for _, p := range near {
 				fixed[p] = true

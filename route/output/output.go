@@ -893,17 +893,21 @@ func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
 	if err := tw.Flush(); err != nil {
 		return err
 	}
+	proposed := "" // the plan may not use proposed pathways: who reaches the hub only over them
+	if len(r.OnlyProposed) > 0 {
+		proposed = fmt.Sprintf("; %s it only over proposed pathways (below)", Counted(len(r.OnlyProposed), "building reaches", "buildings reach"))
+	}
 	switch {
 	case r.Hub == "":
 		fmt.Fprintln(w, "hub         none (no building has role mc and none was named)")
 	case len(r.Unreachable) == 0 && len(r.ThroughOnly) == 0 && len(r.Served) == 0:
-		fmt.Fprintf(w, "hub         %s: every building can reach it\n", t(r.Hub))
+		fmt.Fprintf(w, "hub         %s: every building can reach it%s\n", t(r.Hub), proposed)
 	case len(r.Unreachable) == 0 && len(r.ThroughOnly) == 0:
-		fmt.Fprintf(w, "hub         %s: every building can reach its cross-connect in the plan; %s the hub only through another building (below)\n", t(r.Hub),
-			Counted(len(r.Served), "building reaches", "buildings reach"))
+		fmt.Fprintf(w, "hub         %s: every building can reach its cross-connect in the plan; %s the hub only through another building (below)%s\n", t(r.Hub),
+			Counted(len(r.Served), "building reaches", "buildings reach"), proposed)
 	case len(r.Unreachable) == 0:
-		fmt.Fprintf(w, "hub         %s: %s it only through another building (below); every other building can reach it\n", t(r.Hub),
-			Counted(len(r.ThroughOnly), "building reaches", "buildings reach"))
+		fmt.Fprintf(w, "hub         %s: %s it only through another building (below); every other building can reach it%s\n", t(r.Hub),
+			Counted(len(r.ThroughOnly), "building reaches", "buildings reach"), proposed)
 	default:
 		fmt.Fprintf(w, "hub         %s: %s cannot reach it: %s\n", t(r.Hub), Counted(len(r.Unreachable), "building", "buildings"), escape.TerminalList(r.Unreachable))
 		for _, why := range r.CutOff {
@@ -916,6 +920,10 @@ func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
 		for _, why := range r.Through {
 			fmt.Fprintf(w, "  no route: %s\n", t(InUnits(opt, why)))
 		}
+	}
+	if len(r.OnlyProposed) > 0 {
+		fmt.Fprintf(w, "proposed    %s the hub only over proposed pathways, which the plan may not use (design.allow_new_trench: false): %s\n",
+			Counted(len(r.OnlyProposed), "building reaches", "buildings reach"), escape.TerminalList(r.OnlyProposed))
 	}
 	if len(r.Served) > 0 {
 		fmt.Fprintf(w, "through     %s the hub only through another building, and the plan serves it from a cross-connect it reaches: %s\n",

@@ -165,6 +165,11 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 		infeasible[in.Demand] = lay.explain(in, &links[in.Demand], func(medium string, c spanClass) string {
 			return m.whyNot(medium, facts, c)
 		})
+		if l := &links[in.Demand]; !m.design.AllowNewTrench {
+			if why := s.ProposedOnlyReason(l.From, l.To); why != "" {
+				infeasible[in.Demand] = why + "; " + infeasible[in.Demand]
+			}
+		}
 	}
 	// Each link's legs are its own (the engine's caches are safe for concurrent use, the
 	// rest is read): worked out side by side, assembled in link order.

@@ -30,6 +30,9 @@ type CheckReport struct {
 	// with its building and the reason plan gives its diverse leg (route.NoDiverse, which the
 	// caller sets it from); nil without a plan.
 	NoDiverse []string
+	// OnlyProposed lists, given a plan with design.allow_new_trench: false, the buildings that
+	// reach the hub only over proposed pathways (Site.OnlyOverProposed); nil otherwise.
+	OnlyProposed []string
 	// Entrances lists every building's entrances, by building then entrance ID.
 	Entrances []geo.Entry
 	// Turns lists the junctions where a turn from one pathway into another needs a structure

@@ -15,8 +15,8 @@ import (
 // components labels every junction (by index in Net.Junctions) with its connected part of the
 // pathway network: junctions joined by spans share a label, and, with entrances, so do the
 // entrances of one building (a cable can go through a building: whether a route may is
-// another question, see ThroughOnly).
-func components(net *geo.Network, junction map[string]int, entrances bool) []int {
+// another question, see ThroughOnly). With use, only the spans it accepts join junctions.
+func components(net *geo.Network, junction map[string]int, entrances bool, use func(*geo.Span) bool) []int {
 	parent := make([]int, len(net.Junctions))
 	for i := range parent {
 		parent[i] = i
@@ -34,8 +34,10 @@ func components(net *geo.Network, junction map[string]int, entrances bool) []int
 			parent[max(a, b)] = min(a, b)
 		}
 	}
-	for _, sp := range net.Spans {
-		join(sp.From, sp.To)
+	for i := range net.Spans {
+		if sp := &net.Spans[i]; use == nil || use(sp) {
+			join(sp.From, sp.To)
+		}
 	}
 	for i := 1; entrances && i < len(net.Entrances); i++ {
 		if e, f := net.Entrances[i-1], net.Entrances[i]; e.Building == f.Building {
@@ -58,21 +60,58 @@ func (s *Site) SpanPart(j string) int {
 }
 
 // partsOf lists the parts of the network (components labels) the building's entrances are in.
-func (s *Site) partsOf(b string) []int {
+func (s *Site) partsOf(b string) []int { return s.partsIn(b, s.part) }
+
+// partsIn lists the labels of part (a components labelling) the building's entrances have.
+func (s *Site) partsIn(b string, part []int) []int {
 	var out []int
 	for _, e := range s.Net.EntrancesOf(b) {
-		if j, ok := s.junction[e.Junction]; ok && !slices.Contains(out, s.part[j]) {
-			out = append(out, s.part[j])
+		if j, ok := s.junction[e.Junction]; ok && !slices.Contains(out, part[j]) {
+			out = append(out, part[j])
 		}
 	}
 	if len(out) == 0 { // a building assembled by hand with an Access and no Entrances
 		if a, ok := s.access[b]; ok {
 			if j, ok := s.junction[a.Junction]; ok {
-				out = append(out, s.part[j])
+				out = append(out, part[j])
 			}
 		}
 	}
 	return out
+}
+
+// JoinedExisting is Joined over the pathways that exist: proposed ones, which a plan with
+// design.allow_new_trench: false may not use, left out.
+func (s *Site) JoinedExisting(a, b string) bool {
+	pb := s.partsIn(b, s.existingPart)
+	for _, p := range s.partsIn(a, s.existingPart) {
+		if slices.Contains(pb, p) {
+			return true
+		}
+	}
+	return false
+}
+
+// OnlyOverProposed lists, in campus order, the buildings joined to the hub (Joined) only over
+// proposed pathways (not JoinedExisting): a plan with design.allow_new_trench: false cannot
+// serve them.
+func (s *Site) OnlyOverProposed(hub string) []string {
+	var out []string
+	for _, b := range s.Campus.Buildings {
+		if b.ID != hub && s.Joined(b.ID, hub) && !s.JoinedExisting(b.ID, hub) {
+			out = append(out, b.ID)
+		}
+	}
+	return out
+}
+
+// ProposedOnlyReason is the reason a link between buildings a and b that only proposed
+// pathways join carries when design.allow_new_trench is false ("" when that is not why).
+func (s *Site) ProposedOnlyReason(a, b string) string {
+	if !s.Joined(a, b) || s.JoinedExisting(a, b) {
+		return ""
+	}
+	return fmt.Sprintf("building %s reaches %s only over proposed pathways (design.allow_new_trench: false keeps new trench out of the plan)", b, a)
 }
 
 // Joined reports whether some entrance of building a and some entrance of building b are in
@@ -332,6 +371,18 @@ func (s *Site) walk(from, hub string, also, cross []string) (reached, []string) 
 			x, y := s.junction[es[i-1].Junction], s.junction[es[i].Junction]
 			ends[x] = append(ends[x], y)
 			ends[y] = append(ends[y], x)
+		}
+	}
+	// A building opened as if marked transit: the pathway ends that met inside it, parted at
+	// its walls because it is not (geo.Transit.Parted), are one junction again.
+	for _, b := range also {
+		t, _ := s.Net.TransitOf(b)
+		for _, g := range t.Parted {
+			for i := 1; i < len(g); i++ {
+				x, y := s.junction[g[i-1]], s.junction[g[i]]
+				ends[x] = append(ends[x], y)
+				ends[y] = append(ends[y], x)
+			}
 		}
 	}
 	seen := make(reached, len(s.Net.Junctions))

@@ -24,17 +24,19 @@ type Site struct {
 
 	building map[string]*geo.Building
 	access   map[string]geo.Access
-	junction map[string]int  // junction ID → index in Net.Junctions
-	part     []int           // by junction index: its connected part of the network, entrances joined (components)
-	spanPart []int           // the same by spans alone (SpanPart)
-	entrance map[string]bool // junction IDs of every entrance and access (JoinsNetwork)
-	interior []bool          // by junction index: inside a run of new construction (InRun)
-	carried  []bool          // by junction index: new pathway of one type carried on (JoinsNetwork)
-	dist     sync.Map        // building ID → map[string]float64, see distancesFrom
-	adjOnce  sync.Once
-	adj      *adjacency // junctions joined by spans (spanAdjacency)
-	segOnce  sync.Once
-	segs     map[string][]float64 // span ID → geo.Span.SegmentsM (SegmentsM)
+	junction map[string]int // junction ID → index in Net.Junctions
+	part     []int          // by junction index: its connected part of the network, entrances joined (components)
+	spanPart []int          // the same by spans alone (SpanPart)
+	// existingPart is part over the pathways that exist, proposed ones left out (JoinedExisting).
+	existingPart []int
+	entrance     map[string]bool // junction IDs of every entrance and access (JoinsNetwork)
+	interior     []bool          // by junction index: inside a run of new construction (InRun)
+	carried      []bool          // by junction index: new pathway of one type carried on (JoinsNetwork)
+	dist         sync.Map        // building ID → map[string]float64, see distancesFrom
+	adjOnce      sync.Once
+	adj          *adjacency // junctions joined by spans (spanAdjacency)
+	segOnce      sync.Once
+	segs         map[string][]float64 // span ID → geo.Span.SegmentsM (SegmentsM)
 
 	// Solved keeps the optimizer's solutions of the routing problems solved on this site, by
 	// fingerprint of the canonical problem (see package routing), and Pulls the pull plans of
@@ -131,8 +133,9 @@ func NewSite(c *geo.Campus, net *geo.Network) *Site {
 	for i, j := range net.Junctions {
 		s.junction[j.ID] = i
 	}
-	s.part = components(net, s.junction, true)
-	s.spanPart = components(net, s.junction, false)
+	s.part = components(net, s.junction, true, nil)
+	s.spanPart = components(net, s.junction, false, nil)
+	s.existingPart = components(net, s.junction, true, func(sp *geo.Span) bool { return sp.Status != geo.StatusProposed })
 	s.entrance = make(map[string]bool, len(net.Entrances)+len(net.Access))
 	for _, a := range net.Access {
 		s.entrance[a.Junction] = true
