@@ -7,7 +7,6 @@ import (
 
 	"github.com/paulmach/orb"
 
-	"spanwright/geo/input"
 )
 
 // wallCut is a pathway end drawn through a building's wall that cutAtWalls cut back to it.
@@ -102,17 +101,13 @@ func (b *builder) cutAtWalls(n *Network) {
 	slices.SortFunc(cuts, func(x, y wallCut) int {
 		return strings.Compare(x.pw+"\x00"+x.building, y.pw+"\x00"+y.building)
 	})
-	var total float64
-	texts := make([]string, len(cuts))
-	for i, c := range cuts {
-		total += c.cutM
-		texts[i] = fmt.Sprintf("%s %s m in %s", c.pw, shortM(c.cutM), c.building)
+	// One warning per end cut, each naming its own feature (file, index and id).
+	for _, c := range cuts {
+		pw := b.pathway(c.pw)
+		b.warns = append(b.warns, warnRec{pw.Source, pw.ID, fmt.Sprintf(
+			"drawn through the wall of building %q to a point %s m inside it: cut at the wall, the %s m not counted as route, cable or trench (riser_m takes the cable from the entrance to the telecom room)",
+			c.building, shortM(c.cutM), shortM(c.cutM))})
 	}
-	shown, more := input.Shown(texts, 10)
-	first := b.pathway(cuts[0].pw)
-	b.warns = append(b.warns, warnRec{first.Source, first.ID, fmt.Sprintf(
-		"%d pathway ends drawn through a building's wall to a point inside it are cut at the wall, %s m in all not counted as route, cable or trench (riser_m takes the cable from the entrance to the telecom room): %s%s",
-		len(cuts), shortM(total), strings.Join(shown, ", "), more)})
 }
 
 // wallCrossing cuts line (its last point inside footprint f, its first outside) at the last
@@ -290,14 +285,12 @@ func (b *builder) splitInside() {
 		return
 	}
 	slices.SortFunc(split, func(x, y parted) int { return strings.Compare(x.building+"\x00"+x.pws, y.building+"\x00"+y.pws) })
-	texts := make([]string, len(split))
-	for i, s := range split {
-		texts[i] = fmt.Sprintf("%s %s m inside %s", s.pws, shortM(s.insideM), s.building)
+	// One warning per point, on the first of its pathways (file, index and id).
+	for _, s := range split {
+		b.warns = append(b.warns, warnRec{s.src, s.first, fmt.Sprintf(
+			"pathways %s meet %s m inside building %q and join nothing else there: each is taken as its own duct through the wall, cut where it crosses it, one entrance each (draw a structure where they meet if they are joined inside, or mark the building transit: true)",
+			s.pws, shortM(s.insideM), s.building)})
 	}
-	shown, more := input.Shown(texts, 10)
-	b.warns = append(b.warns, warnRec{split[0].src, split[0].first, fmt.Sprintf(
-		"%d points inside a building where pathway ends meet and join nothing else: each pathway is taken as its own duct through the wall, cut where it crosses it, one entrance each (draw a structure where they meet if they are joined inside, or mark the building transit: true): %s%s",
-		len(split), strings.Join(shown, "; "), more)})
 }
 
 // insideOne returns the building whose footprint holds the point of junction root r more than

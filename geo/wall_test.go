@@ -65,7 +65,7 @@ func TestCutAtWalls(t *testing.T) {
 			warned := ""
 			for _, w := range n.Warnings {
 				if strings.Contains(w.Message, "cut at the wall") {
-					warned = w.Message
+					warned = w.Feature + ": " + w.Message
 				}
 			}
 			for _, w := range n.Warnings {
@@ -97,7 +97,7 @@ func TestCutAtWalls(t *testing.T) {
 			if DistanceM(j.Point, at(0, tc.w.entranceAtY)) > 0.02 {
 				t.Errorf("%s: entrance at %v (junction %s), want where L crosses the wall, at (0, %.0f), the end of %s", tc.name, j.Point, j.ID, tc.w.entranceAtY, sp.ID)
 			}
-			if want := "1 pathway ends drawn through a building's wall to a point inside it are cut at the wall, 10.0 m in all"; !strings.Contains(warned, want) || !strings.Contains(warned, "L 10.0 m in B") {
+			if want := `(L): drawn through the wall of building "B" to a point 10.0 m inside it: cut at the wall, the 10.0 m not counted`; !strings.Contains(warned, want) {
 				t.Errorf("%s: warning %q, want it to say %q and name L", tc.name, warned, want)
 			}
 		})
@@ -156,8 +156,8 @@ func TestSplitInside(t *testing.T) {
 			}
 			var warned string
 			for _, w := range n.Warnings {
-				if strings.Contains(w.Message, "where pathway ends meet") {
-					warned = w.Message
+				if strings.Contains(w.Message, "join nothing else there") {
+					warned = w.Feature + ": " + w.Message
 				}
 			}
 			tr, _ := n.TransitOf("B")
@@ -190,7 +190,7 @@ func TestSplitInside(t *testing.T) {
 			if len(n.EntrancesOf("B")) != 2 {
 				t.Errorf("%s: entrances %s, want 2", tc.name, entryList(n))
 			}
-			if want := `1 points inside a building where pathway ends meet and join nothing else: each pathway is taken as its own duct through the wall, cut where it crosses it, one entrance each (draw a structure where they meet if they are joined inside, or mark the building transit: true): L1 and L2 10.0 m inside B`; !strings.Contains(warned, want) {
+			if want := `(L1): pathways L1 and L2 meet 10.0 m inside building "B" and join nothing else there: each is taken as its own duct through the wall, cut where it crosses it, one entrance each`; !strings.Contains(warned, want) {
 				t.Errorf("%s: warning %q, want it to say %q", tc.name, warned, want)
 			}
 			if len(tr.Parted) != 1 || len(tr.Parted[0]) != 2 {
