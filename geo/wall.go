@@ -6,7 +6,6 @@ import (
 	"strings"
 
 	"github.com/paulmach/orb"
-
 )
 
 // wallCut is a pathway end drawn through a building's wall that cutAtWalls cut back to it.
