@@ -191,20 +191,24 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 	// several carry its charge: a leg's cost does not depend on whether its building has an
 	// entrance it does not use.
 	taps := singleTaps(r.Entrances)
+	through := legsThrough(r.Legs)
+	tapUsers := map[string][]int{}
 	for _, e := range r.Entrances {
 		if e.Single {
 			c, _ := m.entranceCents(e.Building, geo.Entry{ID: e.Entrance, Access: geo.Access{LateralM: e.LateralM}, Built: e.Built}) // checked by problem
 			r.ConstantCents += c
-			shareAmong(r.Legs, c, func(l *Leg) bool { return usesEntrance(l, e.Building, e.Entrance) })
+			users := through[[2]string{e.Building, e.Entrance}]
+			shareAmong(r.Legs, c, users)
+			if e.Tap != "" {
+				tapUsers[e.Tap] = append(tapUsers[e.Tap], users...)
+			}
 		}
 	}
 	for _, j := range slices.Sorted(maps.Keys(taps)) {
 		r.ConstantCents += hh
-		shareAmong(r.Legs, hh, func(l *Leg) bool {
-			return slices.ContainsFunc(r.Entrances, func(e EntranceUse) bool {
-				return e.Single && e.Tap == j && usesEntrance(l, e.Building, e.Entrance)
-			})
-		})
+		users := tapUsers[j]
+		slices.Sort(users)
+		shareAmong(r.Legs, hh, slices.Compact(users))
 	}
 	r.ObjectiveCents += r.ConstantCents + hh*unpaid
 	if r.LowerBoundCents >= 0 {
@@ -213,30 +217,38 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 	return r, nil
 }
 
-// usesEntrance reports whether feasible leg l enters building b by its entrance id.
-func usesEntrance(l *Leg, b, id string) bool {
-	return l.Feasible && (l.Link.To == b && l.EntranceTo == id || l.Link.From == b && l.EntranceFrom == id)
-}
-
-// shareAmong adds cents to the construction of the legs that take it, in equal parts, the
-// remainder cents to the first (as the optimizer splits a charge among its users).
-func shareAmong(legs []Leg, cents int64, takes func(l *Leg) bool) {
-	var users []*Leg
+// legsThrough indexes the feasible legs, in leg order, by the building entrances they use
+// (building, entrance ID).
+func legsThrough(legs []Leg) map[[2]string][]int {
+	out := map[[2]string][]int{}
 	for i := range legs {
-		if takes(&legs[i]) {
-			users = append(users, &legs[i])
+		l := &legs[i]
+		if !l.Feasible {
+			continue
+		}
+		to, from := [2]string{l.Link.To, l.EntranceTo}, [2]string{l.Link.From, l.EntranceFrom}
+		out[to] = append(out[to], i)
+		if from != to {
+			out[from] = append(out[from], i)
 		}
 	}
+	return out
+}
+
+// shareAmong adds cents to the construction of the legs users (indexes into legs, ascending),
+// in equal parts, the remainder cents to the first (as the optimizer splits a charge among its
+// users).
+func shareAmong(legs []Leg, cents int64, users []int) {
 	if len(users) == 0 {
 		return
 	}
 	part := cents / int64(len(users))
-	for i, l := range users {
+	for i, u := range users {
 		c := part
 		if i == 0 {
 			c += cents - part*int64(len(users))
 		}
-		l.Cost.ConstructionCents += c
+		legs[u].Cost.ConstructionCents += c
 	}
 }
 
