@@ -248,11 +248,11 @@ func (s *Site) inTheWay(b, hub string) []string {
 	}
 	pred := make([]int32, n)
 	done := make([]bool, n)
-	h := &crossHeap{}
+	h := &nodeQueue{} // junctions by buildings crossed, then by index (DistancesM's queue)
 	relax := func(k, d int, from int32) {
 		if d < best[k] {
 			best[k], pred[k] = d, from
-			heap.Push(h, crossItem{d, int32(k)})
+			heap.Push(h, queued{int64(k), float64(d)})
 		}
 	}
 	linked := func(x string, d int, from int32) { // in at one entrance of x, out at another
@@ -262,8 +262,8 @@ func (s *Site) inTheWay(b, hub string) []string {
 	}
 	linked(b, 0, -1)
 	for h.Len() > 0 {
-		it := heap.Pop(h).(crossItem)
-		j := int(it.j)
+		it := heap.Pop(h).(queued)
+		j, crossedSoFar := int(it.n), int(it.d)
 		if done[j] {
 			continue
 		}
@@ -282,7 +282,7 @@ func (s *Site) inTheWay(b, hub string) []string {
 			slices.Sort(out)
 			return out
 		}
-		d := it.d
+		d := crossedSoFar
 		var crossed []string
 		if m, ok := s.Net.MeetingAt(s.Net.Junctions[j].ID); ok {
 			for _, x := range m.Buildings {
@@ -299,32 +299,10 @@ func (s *Site) inTheWay(b, hub string) []string {
 			linked(x, d, int32(j))
 		}
 		if m, ok := s.Net.MeetingAt(s.Net.Junctions[j].ID); ok && slices.Contains(m.Buildings, b) {
-			linked(b, it.d, int32(j))
+			linked(b, crossedSoFar, int32(j))
 		}
 	}
 	return nil
-}
-
-// crossItem is a junction and the buildings crossed to reach it, for inTheWay's search.
-type crossItem struct {
-	d int
-	j int32
-}
-
-// crossHeap orders crossItems by buildings crossed, then by junction index.
-type crossHeap []crossItem
-
-func (h crossHeap) Len() int { return len(h) }
-func (h crossHeap) Less(a, b int) bool {
-	return h[a].d < h[b].d || h[a].d == h[b].d && h[a].j < h[b].j
-}
-func (h crossHeap) Swap(a, b int) { h[a], h[b] = h[b], h[a] }
-func (h *crossHeap) Push(x any)   { *h = append(*h, x.(crossItem)) }
-func (h *crossHeap) Pop() any {
-	old := *h
-	x := old[len(old)-1]
-	*h = old[:len(old)-1]
-	return x
 }
 
 // Apart says why no route joins buildings a and b, when the network is the cause: a is cut
