@@ -48,7 +48,7 @@ func coord(p pt) string {
 // kv is one property; properties keep the order they are given in.
 type kv struct {
 	k string
-	v any // string, int or float64
+	v any // string, int, bool or float64
 }
 
 type feature struct {
@@ -186,7 +186,7 @@ var (
 func buildings() {
 	mc := kv{"role", "mc"}
 	ic := kv{"role", "ic"}
-	building("ADM", "Ostrey Hall (Administration)", rect(20, -30, 80, 30), mc)
+	building("ADM", "Ostrey Hall (Administration)", rect(20, -30, 80, 30), mc, kv{"transit", true}) // its basement plant room carries ducts through
 	building("ANX", "Registry Annex", rect(95, -25, 145, 25))
 	building("LIB", "Fallowmere Library", rect(40, 130, 110, 200), kv{"riser_m", 25})
 	building("SCI", "Corran Science Centre", []pt{{40, -200}, {120, -200}, {120, -160}, {80, -160}, {80, -120}, {40, -120}}, kv{"riser_m", 20})
@@ -275,7 +275,7 @@ func streets() {
 func services() {
 	stub("S-ADM", 3, nil, pt{0, 0}, tADM)
 	stub("S-ANX", 2, []kv{mm50}, tADM, tANX)
-	stub("S-LIB", 2, nil, pt{60, 240}, tLIB)
+	stub("S-LIB", 2, nil, pt{60, 240}, pt{60, 193.445}) // through the north wall: a second entrance (end as edited into campus.geojson, 6.6 m inside)
 	stub("S-MED-W", 1, nil, pt{-180, 170}, tMED)
 	stub("S-MED-N", 2, nil, pt{-120, 240}, tMED)
 	stub("S-HUM", 1, nil, pt{0, 135}, tHUM)
@@ -375,6 +375,14 @@ func structures() {
 	structure("HH-07", hh, pt{-90, -240})
 	structure("HH-08", hh, pt{-120, 240})
 	structure("PB-01", "pull-box", pb1)
+	// Handholes at 16 of the 18 tees of service ducts on street ducts; FR-3/S-MTH and NR-5/S-CSC
+	// are left without, so the demo shows turn handholes added.
+	for i, p := range []pt{
+		{-360, -170}, {-360, -20}, {-360, 160}, {-310, 80}, {-225, -240}, {-180, -150}, {-180, 170}, {0, 135},
+		{60, 240}, {150, -240}, {180, -180}, {180, 0}, {180, 130}, {320, -80}, {360, -170}, {360, 0},
+	} {
+		structure(fmt.Sprintf("HH-%02d", 9+i), hh, p)
+	}
 }
 
 func entrances() {
@@ -394,6 +402,8 @@ func propValue(v any) string {
 		return string(b)
 	case int:
 		return strconv.Itoa(t)
+	case bool:
+		return strconv.FormatBool(t)
 	case float64:
 		return strconv.FormatFloat(t, 'f', -1, 64)
 	}
