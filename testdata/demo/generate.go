@@ -146,35 +146,56 @@ var (
 
 func group(g string) kv { return kv{"group", g} }
 
-// Telecom points: where a building's service ducts end, inside its footprint.
+// Telecom points: where service ducts meeting an indoor pathway (tunnel or tray) end, in the
+// basement inside the footprint; the tunnels and the tray are the pathway indoors there.
 var (
 	tADM = pt{60, 0}
-	tANX = pt{100, 0}
-	tLIB = pt{60, 160}
 	tSCI = pt{60, -150}
 	tCEP = pt{60, -290}
-	tMED = pt{-120, 170}
-	tHUM = pt{-25, 135}
 	tENG = pt{-310, -20}
 	tWKS = pt{-255, -20}
-	tTWR = pt{245, 0}
-	tRSB = pt{300, -35}
-	tART = pt{-335, 160}
-	tCAF = pt{160, 130}
-	tGYM = pt{430, 140}
-	tAQU = pt{430, 50}
-	tMTH = pt{220, 180}
-	tCSC = pt{320, 150}
-	tCHM = pt{-320, -170}
-	tPHY = pt{-225, -200}
-	tBUS = pt{-140, -150}
-	tEST = pt{230, -180}
-	tSTO = pt{310, -170}
-	tFRM = pt{780, 800}
-	tBRN = pt{840, 765}
-	tOBS = pt{740, 940}
-	tSHD = pt{740, 790}
-	tLDG = pt{-445, 0}
+)
+
+// Wall points: where a service duct, drop or proposed duct meets a building's wall. Every
+// other pathway into a building ends on its wall, one wall point per pathway, so the building
+// entrance is where the duct comes through the wall and the riser (riser_m) takes the cable on
+// to the telecom room. Declared entrances sit on the wall point of their pathway.
+var (
+	wANXw  = pt{95, 0}      // Registry Annex, west wall (S-ANX from Ostrey Hall)
+	wLIBs  = pt{60, 130}    // Library, south wall: the tunnel T-2 comes in here (E-LIB)
+	wLIBn  = pt{60, 200}    // Library, north wall (S-LIB from North Road)
+	wMEDw  = pt{-150, 170}  // Health Centre, west wall (S-MED-W, E-MED)
+	wMEDn  = pt{-120, 200}  // Health Centre, north wall (S-MED-N)
+	wMEDe  = pt{-80, 150}   // Health Centre, east wall (P-9)
+	wHUMe  = pt{-20, 135}   // Humanities, east wall (S-HUM)
+	wHUMw  = pt{-60, 150}   // Humanities, west wall (P-9)
+	wCAFe  = pt{165, 130}   // Refectory, east wall (S-CAF)
+	wMTHw  = pt{210, 180}   // Mathematics, west wall (S-MTH)
+	wCSCn  = pt{320, 160}   // Computing, north wall (S-CSC)
+	wTWRw  = pt{220, 0}     // Halvard Tower, west wall (S-TWR-W, E-TWR)
+	wTWRe  = pt{270, 0}     // Halvard Tower, east wall (S-TWR-E)
+	wTWRse = pt{270, -25}   // Halvard Tower, east wall by the forecourt (S-RSB-T)
+	wRSBw  = pt{295, -25}   // Kestrel Court South, west wall (S-RSB-T)
+	wRSBs  = pt{320, -65}   // Kestrel Court South, south wall (S-RSB)
+	wARTw  = pt{-340, 160}  // School of Art, west wall (S-ART)
+	wCHMw  = pt{-340, -170} // Chemistry, west wall (S-CHM)
+	wCHMe  = pt{-280, -175} // Chemistry, east wall (P-8)
+	wPHYs  = pt{-225, -220} // Physics, south wall (S-PHY)
+	wPHYw  = pt{-250, -175} // Physics, west wall (P-8)
+	wBUSw  = pt{-160, -150} // School of Business, west wall (S-BUS)
+	wESTw  = pt{210, -180}  // Estates Depot, west wall (S-EST)
+	wESTe  = pt{270, -170}  // Estates Depot, east wall (S-STO)
+	wSTOw  = pt{290, -170}  // Central Stores, west wall (S-STO)
+	wSTOe  = pt{340, -170}  // Central Stores, east wall (P-5)
+	wGYMs  = pt{430, 120}   // Sports Hall, south wall (S-GYM)
+	wGYMn  = pt{430, 180}   // Sports Hall, north wall (P-7)
+	wAQUn  = pt{430, 70}    // Aquatics Centre, north wall (S-AQU)
+	wLDGn  = pt{-445, 20}   // West Gate Lodge, north wall (S-LDG)
+	wLDGe  = pt{-430, -5}   // West Gate Lodge, east wall (P-4)
+	wFRMs  = pt{775, 790}   // Home Farm Office, south wall (B-FRM)
+	wBRNw  = pt{830, 765}   // Livestock Barn, west wall
+	wSHDs  = pt{740, 785}   // Implement Shed, south wall (B-SHD)
+	wOBSs  = pt{740, 930}   // Observatory, south wall (B-OBS, its entrance)
 )
 
 // Network points that several features share.
@@ -274,33 +295,33 @@ func streets() {
 // services lays the building service ducts, the tray and the spurs.
 func services() {
 	stub("S-ADM", 3, nil, pt{0, 0}, tADM)
-	stub("S-ANX", 2, []kv{mm50}, tADM, tANX)
-	stub("S-LIB", 2, nil, pt{60, 240}, pt{60, 193.445}) // through the north wall: a second entrance (end as edited into campus.geojson, 6.6 m inside)
-	stub("S-MED-W", 1, nil, pt{-180, 170}, tMED)
-	stub("S-MED-N", 2, nil, pt{-120, 240}, tMED)
-	stub("S-HUM", 1, nil, pt{0, 135}, tHUM)
-	stub("S-CAF", 1, []kv{mm50}, pt{180, 130}, tCAF)
-	stub("S-MTH", 1, nil, pt{180, 180}, tMTH)
-	stub("S-CSC", 2, nil, pt{320, 240}, tCSC)
+	stub("S-ANX", 2, []kv{mm50}, tADM, wANXw)
+	stub("S-LIB", 2, nil, pt{60, 240}, wLIBn)
+	stub("S-MED-W", 1, nil, pt{-180, 170}, wMEDw)
+	stub("S-MED-N", 2, nil, pt{-120, 240}, wMEDn)
+	stub("S-HUM", 1, nil, pt{0, 135}, wHUMe)
+	stub("S-CAF", 1, []kv{mm50}, pt{180, 130}, wCAFe)
+	stub("S-MTH", 1, nil, pt{180, 180}, wMTHw)
+	stub("S-CSC", 2, nil, pt{320, 240}, wCSCn)
 	stub("S-ENG-W", 2, nil, pt{-360, -20}, tENG)
 	stub("S-ENG-N", 1, nil, pt{-310, 80}, tENG)
 	pathway("TR-ENG", []kv{{"type", "tray"}}, tENG, tWKS) // tray along the covered walkway
-	stub("S-TWR-W", 2, nil, pt{180, 0}, tTWR)
-	stub("S-TWR-E", 1, nil, pt{360, 0}, tTWR)
-	stub("S-RSB", 1, []kv{mm50}, pt{320, -80}, tRSB)
-	stub("S-RSB-T", 2, nil, tTWR, tRSB) // tower to its neighbour, under the forecourt
-	stub("S-ART", 1, nil, pt{-360, 160}, tART)
-	stub("S-CHM", 1, nil, pt{-360, -170}, tCHM)
-	stub("S-PHY", 1, nil, pt{-225, -240}, tPHY)
-	stub("S-BUS", 1, nil, pt{-180, -150}, tBUS)
+	stub("S-TWR-W", 2, nil, pt{180, 0}, wTWRw)
+	stub("S-TWR-E", 1, nil, pt{360, 0}, wTWRe)
+	stub("S-RSB", 1, []kv{mm50}, pt{320, -80}, wRSBs)
+	stub("S-RSB-T", 2, nil, wTWRse, wRSBw) // tower to its neighbour, under the forecourt
+	stub("S-ART", 1, nil, pt{-360, 160}, wARTw)
+	stub("S-CHM", 1, nil, pt{-360, -170}, wCHMw)
+	stub("S-PHY", 1, nil, pt{-225, -240}, wPHYs)
+	stub("S-BUS", 1, nil, pt{-180, -150}, wBUSw)
 	stub("S-SCI", 2, nil, pt{0, -150}, tSCI)
-	stub("S-EST", 1, nil, pt{180, -180}, tEST)
-	stub("S-STO", 1, []kv{mm50}, tEST, tSTO)
+	stub("S-EST", 1, nil, pt{180, -180}, wESTw)
+	stub("S-STO", 1, []kv{mm50}, wESTe, wSTOw)                          // across the depot yard
 	stub("S-CEP", 1, []kv{emiHigh}, tCEP, pt{150, -290}, pt{150, -240}) // beside the plant's feeder
-	stub("S-LDG", 1, []kv{mm50}, pt{-360, 240}, pt{-445, 240}, tLDG)
+	stub("S-LDG", 1, []kv{mm50}, pt{-360, 240}, pt{-445, 240}, wLDGn)
 	stub("S-SPT", 2, nil, pt{360, 100}, pt{430, 100})
-	stub("S-GYM", 1, []kv{emiLow}, pt{430, 100}, tGYM) // past the floodlight contactors
-	stub("S-AQU", 1, nil, pt{430, 100}, tAQU)
+	stub("S-GYM", 1, []kv{emiLow}, pt{430, 100}, wGYMs) // past the floodlight contactors
+	stub("S-AQU", 1, nil, pt{430, 100}, wAQUn)
 	stub("S-NE", 2, nil, pt{360, 240}, pb1)
 }
 
@@ -309,7 +330,7 @@ func services() {
 func tunnels() {
 	tun := []kv{{"type", "tunnel"}}
 	pathway("T-1", tun, tADM, pt{60, 80})
-	pathway("T-2", tun, pt{60, 80}, tLIB)
+	pathway("T-2", tun, pt{60, 80}, wLIBs)
 	pathway("T-3", tun, tADM, pt{60, -80})
 	pathway("T-4", tun, pt{60, -80}, tSCI)
 	pathway("T-5", tun, tCEP, tSCI)
@@ -321,11 +342,11 @@ func farm() {
 	pathway("A-1", aerial, pb1, pt{460, 290}, pt{520, 300}, pt{580, 310}, pt{640, 320}, pt{700, 330})
 	pathway("A-2", append(aerial, emiLow), pt{700, 330}, pt{760, 340}, pt{790, 360}, pt{800, 430}, pt{805, 500}) // shares poles with low-voltage distribution
 	pathway("A-3", aerial, pt{805, 500}, pt{805, 570}, pt{800, 640}, pt{790, 710}, fj)
-	pathway("A-4", aerial, fj, tBRN)
+	pathway("A-4", aerial, fj, wBRNw)
 	pathway("A-5", aerial, fj, pt{750, 850}, pt{745, 905})
-	pathway("B-FRM", []kv{{"type", "buried"}}, fj, tFRM)
-	pathway("B-SHD", []kv{{"type", "buried"}}, fj, tSHD)
-	pathway("B-OBS", []kv{{"type", "buried"}}, pt{745, 905}, tOBS)
+	pathway("B-FRM", []kv{{"type", "buried"}}, fj, wFRMs)
+	pathway("B-SHD", []kv{{"type", "buried"}}, fj, wSHDs)
+	pathway("B-OBS", []kv{{"type", "buried"}}, pt{745, 905}, wOBSs)
 }
 
 // proposals lays the candidate new construction.
@@ -333,12 +354,12 @@ func proposals() {
 	proposed("P-1", "buried", "turf", pt{-180, 0}, pt{0, 0})               // across the Commons
 	proposed("P-2", "duct", "asphalt", pt{-180, -80}, pt{0, -80})          // under the Commons footpath
 	proposed("P-3", "buried", "turf", pb1, fj)                             // across the fields to the farm
-	proposed("P-4", "buried", "turf", pt{-360, -20}, tLDG)                 // short cut to the lodge
-	proposed("P-5", "duct", "asphalt", tSTO, pt{360, -170})                // stores yard to Eastgate Avenue
+	proposed("P-4", "buried", "turf", pt{-360, -20}, wLDGe)                // short cut to the lodge
+	proposed("P-5", "duct", "asphalt", wSTOe, pt{360, -170})               // stores yard to Eastgate Avenue
 	proposed("P-6", "duct", "asphalt", pt{180, -180}, pt{100, -180}, tSCI) // service yard into science
-	proposed("P-7", "buried", "turf", pt{360, 240}, tGYM)                  // second feed to the sports hall
-	proposed("P-8", "duct", "concrete", tCHM, tPHY)                        // chemistry to physics
-	proposed("P-9", "duct", "concrete", tMED, tHUM)                        // health centre to humanities
+	proposed("P-7", "buried", "turf", pt{360, 240}, wGYMn)                 // second feed to the sports hall
+	proposed("P-8", "duct", "concrete", wCHMe, wPHYw)                      // chemistry to physics
+	proposed("P-9", "duct", "concrete", wMEDe, wHUMw)                      // health centre to humanities
 }
 
 func structures() {
@@ -386,10 +407,10 @@ func structures() {
 }
 
 func entrances() {
-	entrance("E-LIB", "LIB", tLIB)
-	entrance("E-MED", "MED", tMED)
-	entrance("E-TWR", "TWR", tTWR)
-	entrance("", "OBS", tOBS)
+	entrance("E-LIB", "LIB", wLIBs)
+	entrance("E-MED", "MED", wMEDw)
+	entrance("E-TWR", "TWR", wTWRw)
+	entrance("", "OBS", wOBSs)
 }
 
 func propValue(v any) string {
