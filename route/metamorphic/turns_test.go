@@ -9,6 +9,7 @@ import (
 	"testing"
 
 	"spanwright/geo"
+	"spanwright/media"
 	"spanwright/route"
 	"spanwright/route/internal/campusgen"
 )
@@ -199,10 +200,11 @@ func propID(f *campusgen.Feature) string {
 //
 // Nearer the junction than snap_m, Build takes the vertex for the junction itself (see noisy).
 // Every leg's route, medium and turns, the handholes added and why, the pull sections and
-// run handholes are those of the plan without noise. The noise lengthens the lines, which the
-// bill prices (trench, duct and cable by the metre), so the total is compared with the same
-// noise drawn to the other side of each line (mirror): the same metres, the same total to
-// the cent. Measured on the drawn end segments (before this test), the spike changed a
+// run handholes are the same with the noise drawn to either side of each line (mirror): the
+// same metres, so only an angle measured on the noise could tell them apart. (Against the
+// plan without noise they may differ: the noise lengthens the lines, which can tip a near
+// tie between two routes; 4 of 60 soak campuses did.) The totals agree within the bill's
+// rounding (roundingCents): a line's metres may cross a 0.1 m step one way and not the other. Measured on the drawn end segments (before this test), the spike changed a
 // leg's route or turns or the total on all 8 quick campuses (up to 17,035.37 between a spike
 // and its mirror); the jitter, at most 1.9° on a drawn segment there, changed none.
 func TestJunctionNoise(t *testing.T) {
@@ -230,9 +232,9 @@ func TestJunctionNoise(t *testing.T) {
 				}
 			}
 		}
-		want := planDigest(base, base)
 		for _, k := range kinds {
-			var totals [2]int64
+			var totals, bounds [2]int64
+			var want []string
 			for side, mirror := range []bool{false, true} {
 				r := rand.New(rand.NewPCG(seed, 11))
 				var addedM float64
@@ -241,7 +243,11 @@ func TestJunctionNoise(t *testing.T) {
 					return fs
 				})
 				_, res := outputs(t, sc2)
-				if got := planDigest(res, base); !slices.Equal(got, want) {
+				got := planDigest(res, base)
+				if !mirror {
+					want = got
+				}
+				if mirror && !slices.Equal(got, want) {
 					for i := range max(len(got), len(want)) {
 						var g, w string
 						if i < len(got) {
@@ -251,19 +257,42 @@ func TestJunctionNoise(t *testing.T) {
 							w = want[i]
 						}
 						if g != w {
-							t.Errorf("%s (mirror %v, %.2f m added): %s\n  without noise: %s", k.name, mirror, addedM, g, w)
+							t.Errorf("%s (mirrored, %.2f m added): %s\n  not mirrored: %s", k.name, addedM, g, w)
 							break
 						}
 					}
 				}
-				totals[side] = res.Estimate.BOM.TotalCents
+				totals[side], bounds[side] = res.Estimate.BOM.TotalCents, roundingCents(res)
 				if mirror {
 					t.Logf("%s: %.3f m added, total %+d cents", k.name, addedM, totals[1]-base.Estimate.BOM.TotalCents)
 				}
 			}
-			if totals[0] != totals[1] {
-				t.Errorf("%s: total %d cents, %d cents with the noise mirrored (the same metres)", k.name, totals[0], totals[1])
+			if d := totals[0] - totals[1]; d > max(bounds[0], bounds[1]) || -d > max(bounds[0], bounds[1]) {
+				t.Errorf("%s: total %d cents, %d cents with the noise mirrored (the same metres), more apart than the bill's rounding (%d cents)",
+					k.name, totals[0], totals[1], max(bounds[0], bounds[1]))
 			}
 		}
 	})
+}
+
+// roundingCents bounds how far r's total may move when its quantities move across their
+// rounding steps without changing in substance: a step of each line's rounding (0.1 m, 0.01 h,
+// cable bought in whole metres per leg) at its unit price, with the markups on top (at most
+// half again). The project's own rule (media.PriceBook.Bill rounds each line): no outside
+// source.
+func roundingCents(r *route.Result) int64 {
+	var c float64
+	for _, l := range r.Estimate.BOM.Lines {
+		switch l.Unit {
+		case media.UnitM:
+			step := 0.1
+			if l.Category == media.CategoryMaterial {
+				step = float64(len(r.Legs)) // cable: whole metres per leg
+			}
+			c += step * float64(l.UnitCents)
+		case media.UnitHour:
+			c += 0.01 * float64(l.UnitCents)
+		}
+	}
+	return int64(1.5 * c)
 }
