@@ -190,9 +190,8 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 	// use the entrance, in equal shares, as the legs through an entrance of a building with
 	// several carry its charge: a leg's cost does not depend on whether its building has an
 	// entrance it does not use.
-	taps := singleTaps(r.Entrances)
 	through := legsThrough(r.Legs)
-	tapUsers := map[string][]int{}
+	tapUsers := map[string][]int{} // the junctions of singleTaps, each with the legs it serves
 	for _, e := range r.Entrances {
 		if e.Single {
 			c, _ := m.entranceCents(e.Building, geo.Entry{ID: e.Entrance, Access: geo.Access{LateralM: e.LateralM}, Built: e.Built}) // checked by problem
@@ -204,7 +203,7 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 			}
 		}
 	}
-	for _, j := range slices.Sorted(maps.Keys(taps)) {
+	for _, j := range slices.Sorted(maps.Keys(tapUsers)) {
 		r.ConstantCents += hh
 		users := tapUsers[j]
 		slices.Sort(users)

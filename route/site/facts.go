@@ -260,10 +260,24 @@ func (s *Site) inTheWay(b, hub string) []string {
 			relax(s.junction[e.Junction], d, from)
 		}
 	}
-	linked(b, 0, -1)
+	// closedAt lists the buildings a route passing junction j crosses there.
+	closedAt := func(j int) []string {
+		m, ok := s.Net.MeetingAt(s.Net.Junctions[j].ID)
+		if !ok {
+			return nil
+		}
+		var out []string
+		for _, x := range m.Buildings {
+			if closed(x) {
+				out = append(out, x)
+			}
+		}
+		return out
+	}
+	linked(b, 0, -1) // every entrance of b starts at 0: b itself is never crossed
 	for h.Len() > 0 {
 		it := heap.Pop(h).(queued)
-		j, crossedSoFar := int(it.n), int(it.d)
+		j := int(it.n)
 		if done[j] {
 			continue
 		}
@@ -271,35 +285,18 @@ func (s *Site) inTheWay(b, hub string) []string {
 		if goal[j] {
 			var out []string
 			for k := pred[j]; k >= 0; k = pred[k] {
-				if m, ok := s.Net.MeetingAt(s.Net.Junctions[k].ID); ok {
-					for _, x := range m.Buildings {
-						if closed(x) && !slices.Contains(out, x) {
-							out = append(out, x)
-						}
-					}
-				}
+				out = append(out, closedAt(int(k))...)
 			}
 			slices.Sort(out)
-			return out
+			return slices.Compact(out)
 		}
-		d := crossedSoFar
-		var crossed []string
-		if m, ok := s.Net.MeetingAt(s.Net.Junctions[j].ID); ok {
-			for _, x := range m.Buildings {
-				if closed(x) {
-					crossed = append(crossed, x)
-				}
-			}
-		}
-		d += len(crossed)
+		crossed := closedAt(j)
+		d := int(it.d) + len(crossed)
 		for _, k := range adj.to[adj.start[j]:adj.start[j+1]] {
 			relax(int(k), d, int32(j))
 		}
 		for _, x := range crossed {
 			linked(x, d, int32(j))
-		}
-		if m, ok := s.Net.MeetingAt(s.Net.Junctions[j].ID); ok && slices.Contains(m.Buildings, b) {
-			linked(b, crossedSoFar, int32(j))
 		}
 	}
 	return nil

@@ -57,20 +57,27 @@ func lineCampus(t *testing.T, names []string, offsetsM []float64, roles map[stri
 	return site.NewSite(c, net)
 }
 
+// defaultLinks is the IDs of the links the default plan makes on s with the given hub.
+func defaultLinks(t *testing.T, s *site.Site, hub string) []string {
+	t.Helper()
+	p := plan.Default
+	p.File = "plan.yaml"
+	links, _, errs := s.Links(&p, hub)
+	if len(errs) > 0 {
+		t.Fatal(errs)
+	}
+	var ids []string
+	for _, l := range links {
+		ids = append(ids, l.ID)
+	}
+	return ids
+}
+
 func TestLinksStar(t *testing.T) {
 	t.Parallel()
 	// A(mc) ... C D ... B(ic) E: C is nearer A, D and E nearer B.
 	s := lineCampus(t, []string{"A", "C", "D", "B", "E"}, []float64{0, 100, 400, 500, 600}, map[string]string{"A": "mc", "B": "ic"}, "")
-	p := plan.Default
-	p.File = "plan.yaml"
-	links, _, errs := s.Links(&p, "A")
-	if len(errs) > 0 {
-		t.Fatal(errs)
-	}
-	var got []string
-	for _, l := range links {
-		got = append(got, l.ID)
-	}
+	got := defaultLinks(t, s, "A")
 	// ANSI/TIA-568 hierarchical star: ic to the hub, each served building to its nearest cross-connect.
 	if want := "A-B A-C B-D B-E"; strings.Join(got, " ") != want {
 		t.Errorf("default links: got %v, want %s", got, want)
@@ -349,16 +356,7 @@ func TestLinksNearestOverAnyEntrance(t *testing.T) {
 	if !slices.Equal(via, []string{"B-L2"}) {
 		t.Fatalf("B's access is on %v, want B-L2 (the case this test is about)", via)
 	}
-	p := plan.Default
-	p.File = "plan.yaml"
-	links, _, errs := s.Links(&p, "A")
-	if len(errs) > 0 {
-		t.Fatal(errs)
-	}
-	var got []string
-	for _, l := range links {
-		got = append(got, l.ID)
-	}
+	got := defaultLinks(t, s, "A")
 	// ANSI/TIA-568 hierarchical star: each served building to its nearest cross-connect, by
 	// the network between any entrance of one and any entrance of the other.
 	if want := "A-B A-C B-D B-E"; strings.Join(got, " ") != want {
