@@ -25,7 +25,7 @@ type wallCut struct {
 // another there, outside transit buildings), and so are trays and tunnels (indoor pathways), a pathway
 // whose span lies wholly inside the footprint, and an end inside two footprints at once.
 // It runs after spans, before the junctions take their points, and moves the end's junction to
-// the wall; one warning names the pathways cut and by how much.
+// the wall; each end cut is warned about on its pathway, with the metres left off.
 func (b *builder) cutAtWalls(n *Network) {
 	degree := make(map[string]int, len(n.Spans)*2)
 	at := make(map[string]int, len(n.Spans)*2) // junction ID → a span ending there
@@ -157,8 +157,8 @@ func (b *builder) cutOff(id string, p orb.Point) bool {
 // duct: each end becomes a junction of its own, which cutAtWalls then cuts at its own wall
 // crossing, so the building has an entrance at each wall and the metres inside count as no
 // outside plant. It runs after cut, before number, and only where every end will be cut (the
-// far end of each piece outside the footprint, the line crossing its wall); one warning per
-// building names the pathways parted. A structure drawn at the meeting point keeps them joined.
+// far end of each piece outside the footprint, the line crossing its wall); each point is
+// warned about on the first of its pathways. A structure drawn at the meeting point keeps them joined.
 func (b *builder) splitInside() {
 	in := make(map[int][]int) // root → the buildings (index) with a footprint door there
 	for bi := range b.c.Buildings {
