@@ -1,7 +1,6 @@
 package estimate_test
 
 import (
-	"context"
 	"fmt"
 	"math"
 	"strings"
@@ -193,14 +192,7 @@ func TestJamGeneratedCampuses(t *testing.T) {
 				if inner {
 					innerduct33(p)
 				}
-				eng, err := plan.Engine(p)
-				if err != nil {
-					t.Fatal(err)
-				}
-				r, err := route.SolveWith(context.Background(), s, p, eng)
-				if err != nil {
-					t.Fatal(err)
-				}
+				r := testplan.SolvePlan(t, s, p)
 				if n := fillHolds(t, r); n != 0 {
 					t.Errorf("%d cables in no duct (%s)", n, noDuctWarning(r))
 				}

@@ -86,13 +86,19 @@ func BOMLine(b *media.BOM, prefix string) (media.BOMLine, bool) {
 func DemoResult(t testing.TB) *route.Result {
 	t.Helper()
 	s, p := testsite.Demo(t)
+	return SolvePlan(t, s, p)
+}
+
+// SolvePlan plans p on site s with p's own engine, failing t on an error.
+func SolvePlan(tb testing.TB, s *site.Site, p *plan.Plan) *route.Result {
+	tb.Helper()
 	eng, err := plan.Engine(p)
 	if err != nil {
-		t.Fatal(err)
+		tb.Fatal(err)
 	}
 	r, err := route.SolveWith(context.Background(), s, p, eng)
 	if err != nil {
-		t.Fatal(err)
+		tb.Fatal(err)
 	}
 	return r
 }
