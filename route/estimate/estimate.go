@@ -698,7 +698,7 @@ func (r *run) ductFill() {
 		return ods
 	}
 	// pack fills the ducts of a span, existing ones first; ducts from `added` on are new.
-	pack := func(sp *geo.Span, ducts, added int, a install.Assignment, ods []float64, hint string) {
+	pack := func(sp *geo.Span, added int, a install.Assignment, ods []float64, hint string) {
 		if a.Err != nil {
 			e.Warnings = append(e.Warnings, fmt.Sprintf("span %s: duct fill: %v", sp.ID, a.Err))
 			return
@@ -729,7 +729,7 @@ func (r *run) ductFill() {
 			sp, _ := r.Site.Net.Span(f.Span)
 			ods := cables(f.Span, f.Links)
 			bank := install.DuctBank{Ducts: f.Ducts + f.AddedDucts, IDMM: sp.DuctMM}
-			pack(&sp, bank.Ducts, f.Ducts, bank.Pull(ods), ods, "")
+			pack(&sp, f.Ducts, bank.Pull(ods), ods, "")
 		}
 	}
 	// The ducts of new construction, built to size: the design's or as many as its cables
@@ -743,7 +743,7 @@ func (r *run) ductFill() {
 			ods := cables(id, nil)
 			r.newDucts[id] = items.NewDucts(design, sp.DuctMM, ods)
 			bank := install.DuctBank{Ducts: r.newDucts[id], IDMM: sp.DuctMM}
-			pack(&sp, bank.Ducts, 0, bank.Assign(ods), ods, "; each too large for an empty duct (one cable: 53 % fill)")
+			pack(&sp, 0, bank.Assign(ods), ods, "; each too large for an empty duct (one cable: 53 % fill)")
 		}
 	}
 }
