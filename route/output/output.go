@@ -345,7 +345,7 @@ func InUnits(opt WriteOptions, text string) string {
 		if i := strings.IndexByte(num, '.'); i >= 0 {
 			dec = len(num) - i - 1
 		}
-		return strconv.FormatFloat(v*FtPerM, 'f', dec, 64) + " ft"
+		return strconv.FormatFloat(UnitsOf(opt).M(v), 'f', dec, 64) + " ft"
 	})
 }
 
@@ -872,10 +872,7 @@ func ftOrM(opt WriteOptions, m float64, decimals int) string {
 // (those inside the texts of cut-off buildings, near misses and warnings by InUnits).
 func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
 	t := escape.Terminal // ids and names from the input, each within a line
-	unit, scale := "m", 1.0
-	if opt.imperial() {
-		unit, scale = "ft", FtPerM
-	}
+	u := UnitsOf(opt)
 	fmt.Fprintf(w, "buildings   %d (mc %d, ic %d, served %d)\n", r.Buildings, r.ByRole["mc"], r.ByRole["ic"], r.ByRole["served"])
 	fmt.Fprintf(w, "structures  %d\n", r.Structures)
 	fmt.Fprintf(w, "junctions   %d\n", r.Junctions)
@@ -883,13 +880,13 @@ func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
 	fmt.Fprintln(w, piecesLine(r))
 	fmt.Fprintln(w, "pathways:")
 	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', tabwriter.AlignRight)
-	fmt.Fprintf(tw, "  type\tstatus\tcount\tlength %s\t\n", unit)
+	fmt.Fprintf(tw, "  type\tstatus\tcount\tlength %s\t\n", u.Length)
 	var total float64
 	for _, p := range r.Pathways {
-		fmt.Fprintf(tw, "  %s\t%s\t%d\t%.1f\t\n", t(p.Type), t(p.Status), p.Pathways, p.LengthM*scale)
+		fmt.Fprintf(tw, "  %s\t%s\t%d\t%.1f\t\n", t(p.Type), t(p.Status), p.Pathways, u.M(p.LengthM))
 		total += p.LengthM
 	}
-	fmt.Fprintf(tw, "  all\t\t\t%.1f\t\n", total*scale)
+	fmt.Fprintf(tw, "  all\t\t\t%.1f\t\n", u.M(total))
 	if err := tw.Flush(); err != nil {
 		return err
 	}
