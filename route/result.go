@@ -196,6 +196,31 @@ func Check(s *site.Site, p *plan.Plan, eng *media.Engine) error {
 	return err
 }
 
+// CheckPlan adds to rep, the campus's check report, what plan p finds before routing: of the
+// buildings reached only through another, those its links meet (Site.ThroughFor: one
+// served from an ic it reaches directly is fine); with allow_new_trench false, the buildings
+// reached only over proposed pathways; and the diverse links that can have no second route
+// (NoDiverse). It returns the problems plan would reject p for (Check), with or without a hub.
+func CheckPlan(s *site.Site, p *plan.Plan, rep *site.CheckReport) error {
+	if rep.Hub != "" && len(rep.ThroughOnly) > 0 {
+		if links, _, errs := s.Links(p, rep.Hub); len(errs) == 0 {
+			s.ThroughFor(rep, links) // bad links are Check's to report
+		}
+	}
+	if rep.Hub != "" && !p.Design.AllowNewTrench {
+		rep.OnlyProposed = s.OnlyOverProposed(rep.Hub)
+	}
+	eng, err := plan.Engine(p)
+	switch {
+	case err != nil:
+	case rep.Hub != "":
+		rep.NoDiverse, err = NoDiverse(s, p, eng)
+	default:
+		err = Check(s, p, eng) // no hub: its problem is among plan's
+	}
+	return err
+}
+
 // NoDiverse lists the diverse links of the plan that can have no second route however the
 // plan routes them (routing.NoDiverse: one lateral only, or every route through one span,
 // junction or shared-risk group such as one trench), one line each, in link order: the

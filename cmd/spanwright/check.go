@@ -10,7 +10,6 @@ import (
 	"github.com/urfave/cli/v2"
 
 	"spanwright/route"
-	"spanwright/route/escape"
 	"spanwright/route/output"
 	"spanwright/route/plan"
 	"spanwright/route/site"
@@ -65,29 +64,10 @@ func runCheck(ctx context.Context, args []string, db string, maxBytes int64, opt
 		return err
 	}
 	rep := st.Check(hub)
-	if p != nil && rep.Hub != "" && len(rep.ThroughOnly) > 0 {
-		// Of the buildings reached only through another, those the plan's links meet: one
-		// served from an ic it reaches directly is fine. Bad links are reported below.
-		if links, _, errs := st.Links(p, rep.Hub); len(errs) == 0 {
-			st.ThroughFor(&rep, links)
-		}
-	}
-	// Everything plan rejects before routing, check rejects too (route.Check, which NoDiverse
-	// runs first), after the report; the diverse links plan would leave with one route go into it.
-	if p != nil && rep.Hub != "" && !p.Design.AllowNewTrench {
-		rep.OnlyProposed = st.OnlyOverProposed(rep.Hub)
-	}
+	// Everything plan rejects before routing, check rejects too, after the report.
 	var planErr error
 	if p != nil {
-		eng, err := plan.Engine(p)
-		switch {
-		case err != nil:
-		case rep.Hub != "":
-			rep.NoDiverse, err = route.NoDiverse(st, p, eng)
-		default:
-			err = route.Check(st, p, eng) // no hub: its problem is among plan's
-		}
-		planErr = err
+		planErr = route.CheckPlan(st, p, &rep)
 	}
 	if err := output.PrintCheck(w, rep, opt); err != nil {
 		return err
@@ -99,25 +79,9 @@ func runCheck(ctx context.Context, args []string, db string, maxBytes int64, opt
 	if planErr != nil {
 		return planErr
 	}
-	// As plan: the buildings cut off, and those reached only through a building routes may not
-	// cross, cannot be served (exit 3); the rest can be planned.
-	var cannot []string
-	if len(rep.Unreachable) > 0 {
-		cannot = append(cannot, fmt.Sprintf("%s cannot reach the hub %s: %s", output.Counted(len(rep.Unreachable), "building", "buildings"),
-			escape.Terminal(rep.Hub), escape.TerminalList(rep.Unreachable)))
-	}
-	if len(rep.ThroughOnly) > 0 {
-		cannot = append(cannot, fmt.Sprintf("%s the hub %s only through another building routes may not cross: %s",
-			output.Counted(len(rep.ThroughOnly), "building reaches", "buildings reach"), escape.Terminal(rep.Hub), escape.TerminalList(rep.ThroughOnly)))
-	}
-	if len(rep.OnlyProposed) > 0 {
-		cannot = append(cannot, fmt.Sprintf("%s the hub %s only over proposed pathways (design.allow_new_trench: false): %s",
-			output.Counted(len(rep.OnlyProposed), "building reaches", "buildings reach"), escape.Terminal(rep.Hub), escape.TerminalList(rep.OnlyProposed)))
-	}
-	if len(rep.NoDiverse) > 0 {
-		cannot = append(cannot, fmt.Sprintf("%s no second route, as plan would find, listed above",
-			output.Counted(len(rep.NoDiverse), "diverse link has", "diverse links have")))
-	}
+	// As plan: the buildings and diverse links that cannot be served (exit 3); the rest can be
+	// planned.
+	cannot := output.CannotServe(rep)
 	if len(cannot) > 0 {
 		return fmt.Errorf("%w: %s", route.ErrInfeasible, strings.Join(cannot, "; "))
 	}

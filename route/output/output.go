@@ -868,6 +868,31 @@ func ftOrM(opt WriteOptions, m float64, decimals int) string {
 	return strconv.FormatFloat(UnitsOf(opt).Rounded(m, decimals), 'f', decimals, 64)
 }
 
+// CannotServe says, one clause each, what a check report finds a plan cannot serve: the
+// buildings cut off from the hub, those reaching it only through a building routes may not
+// cross or only over proposed pathways, and the diverse links with no second route (listed
+// in the report itself). Nil when there is none.
+func CannotServe(rep site.CheckReport) []string {
+	var out []string
+	if len(rep.Unreachable) > 0 {
+		out = append(out, fmt.Sprintf("%s cannot reach the hub %s: %s", Counted(len(rep.Unreachable), "building", "buildings"),
+			escape.Terminal(rep.Hub), escape.TerminalList(rep.Unreachable)))
+	}
+	if len(rep.ThroughOnly) > 0 {
+		out = append(out, fmt.Sprintf("%s the hub %s only through another building routes may not cross: %s",
+			Counted(len(rep.ThroughOnly), "building reaches", "buildings reach"), escape.Terminal(rep.Hub), escape.TerminalList(rep.ThroughOnly)))
+	}
+	if len(rep.OnlyProposed) > 0 {
+		out = append(out, fmt.Sprintf("%s the hub %s only over proposed pathways (design.allow_new_trench: false): %s",
+			Counted(len(rep.OnlyProposed), "building reaches", "buildings reach"), escape.Terminal(rep.Hub), escape.TerminalList(rep.OnlyProposed)))
+	}
+	if len(rep.NoDiverse) > 0 {
+		out = append(out, fmt.Sprintf("%s no second route, as plan would find, listed above",
+			Counted(len(rep.NoDiverse), "diverse link has", "diverse links have")))
+	}
+	return out
+}
+
 // PrintCheck writes a check report as aligned text; lengths in metres, or feet when imperial
 // (those inside the texts of cut-off buildings, near misses and warnings by InUnits).
 func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
