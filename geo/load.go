@@ -843,8 +843,8 @@ func enumHint(allowed []string, got string) string {
 	for _, a := range allowed {
 		known[a] = true
 	}
-	if h := input.DidYouMean(got, known); h != "" {
-		return fmt.Sprintf("; did you mean %q?", strings.TrimSuffix(strings.TrimPrefix(h, " did you mean "), "?"))
+	if near := input.Nearest(got, known); near != "" {
+		return fmt.Sprintf("; did you mean %q?", near)
 	}
 	return ""
 }

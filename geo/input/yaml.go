@@ -391,6 +391,14 @@ func (mg *merger) pairs(n *yaml.Node) [][2]*yaml.Node {
 // snap_m); "" otherwise. It is the one hint of every unknown key: a YAML file's (Decoder)
 // and a sweep file's dotted plan keys (design.snap_mm).
 func DidYouMean[V any](key string, known map[string]V) string {
+	if best := Nearest(key, known); best != "" {
+		return " did you mean " + best + "?"
+	}
+	return ""
+}
+
+// Nearest is the known key DidYouMean names for key, "" when there is none.
+func Nearest[V any](key string, known map[string]V) string {
 	best, bestD, ties := "", max(1, len(key)/3)+1, 0
 	for _, k := range slices.Sorted(maps.Keys(known)) {
 		d := EditDistance(key, k)
@@ -404,10 +412,10 @@ func DidYouMean[V any](key string, known map[string]V) string {
 			ties++
 		}
 	}
-	if best == "" || ties > 1 {
+	if ties > 1 {
 		return ""
 	}
-	return " did you mean " + best + "?"
+	return best
 }
 
 // Counted is n and the words that go with it: one for a count of one, many for any other
