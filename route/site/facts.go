@@ -82,15 +82,7 @@ func (s *Site) partsIn(b string, part []int) []int {
 
 // JoinedExisting is Joined over the pathways that exist: proposed ones, which a plan with
 // design.allow_new_trench: false may not use, left out.
-func (s *Site) JoinedExisting(a, b string) bool {
-	pb := s.partsIn(b, s.existingPart)
-	for _, p := range s.partsIn(a, s.existingPart) {
-		if slices.Contains(pb, p) {
-			return true
-		}
-	}
-	return false
-}
+func (s *Site) JoinedExisting(a, b string) bool { return s.joinedIn(a, b, s.existingPart) }
 
 // OnlyOverProposed lists, in campus order, the buildings joined to the hub (Joined) only over
 // proposed pathways (not JoinedExisting): a plan with design.allow_new_trench: false cannot
@@ -116,9 +108,13 @@ func (s *Site) ProposedOnlyReason(a, b string) string {
 
 // Joined reports whether some entrance of building a and some entrance of building b are in
 // one part of the pathway network.
-func (s *Site) Joined(a, b string) bool {
-	pb := s.partsOf(b)
-	for _, p := range s.partsOf(a) {
+func (s *Site) Joined(a, b string) bool { return s.joinedIn(a, b, s.part) }
+
+// joinedIn reports whether some entrance of a and some entrance of b have one label of part
+// (a components labelling).
+func (s *Site) joinedIn(a, b string, part []int) bool {
+	pb := s.partsIn(b, part)
+	for _, p := range s.partsIn(a, part) {
 		if slices.Contains(pb, p) {
 			return true
 		}
