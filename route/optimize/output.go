@@ -142,17 +142,22 @@ func (r *Route) legWith(e int) *Leg {
 }
 
 // splitCents gives f cents to the users (demands, ascending) through add: equal parts, the
-// remainder cents to the first.
+// remainder cents to the first (ShareCents).
 func splitCents(f int64, users []int32, add func(u int32, c int64)) {
-	n := int64(len(users))
-	part := f / n
 	for i, u := range users {
-		c := part
-		if i == 0 {
-			c += f - part*n
-		}
-		add(u, c)
+		add(u, ShareCents(f, len(users), i))
 	}
+}
+
+// ShareCents is user i's share (0 ≤ i < n) of cents split among n users: equal parts, the
+// remainder cents to the first. It is how every cost a plan shares is split (construction,
+// charges, a building's one entrance).
+func ShareCents(cents int64, n, i int) int64 {
+	part := cents / int64(n)
+	if i == 0 {
+		return part + cents - part*int64(n)
+	}
+	return part
 }
 
 // legLess orders the legs of a pair: cheaper first, then shorter, then by first edge.

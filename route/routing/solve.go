@@ -235,19 +235,10 @@ func legsThrough(legs []Leg) map[[2]string][]int {
 }
 
 // shareAmong adds cents to the construction of the legs users (indexes into legs, ascending),
-// in equal parts, the remainder cents to the first (as the optimizer splits a charge among its
-// users).
+// as the optimizer splits a charge among its users (optimize.ShareCents).
 func shareAmong(legs []Leg, cents int64, users []int) {
-	if len(users) == 0 {
-		return
-	}
-	part := cents / int64(len(users))
 	for i, u := range users {
-		c := part
-		if i == 0 {
-			c += cents - part*int64(len(users))
-		}
-		legs[u].Cost.ConstructionCents += c
+		legs[u].Cost.ConstructionCents += optimize.ShareCents(cents, len(users), i)
 	}
 }
 
