@@ -28,11 +28,11 @@ import (
 // no edge, so they take each w_e^d at most once).
 //
 // Choosing the prices is the heuristic part. For each demand in turn (dualPasses passes, a
-// demand keeping its prices between passes), repeat: find the cheapest path; raise the price
-// of one of its budgeted edges (fullest budget first, dualProbes tried) by exactly what the
-// cheapest path then gains, so that no budget is spent that does not raise the bound; when no
-// single edge gains (the path has an equally cheap alternative), raise the budgeted edges of
-// every cheapest path together by the least budget left among them, and keep of each only
+// demand keeping its prices between passes), repeat: find the cheapest path; raise the
+// budgeted edges that lie on every cheapest path (counted from a search out of the free end
+// and one back from the anchor) by their whole budget left; when there are none (every edge
+// has an equally cheap way around it), raise the budgeted edges of every cheapest path
+// together by the least budget left among them. Either way keep of each raise only
 // max(0, |π_u − π_v| − c_e), π the new distances from the free end capped at the new level —
 // feasible potentials, so the level is the new cheapest path, and a raise the path did not
 // need goes back to the budget. The work (nodes and edges scanned) is capped; demands the
@@ -45,12 +45,8 @@ import (
 // dualPasses is the number of passes of the ascent.
 const dualPasses = 2
 
-// dualRaises bounds the prices one demand raises in one pass; dualProbes the edges of one
-// path tried for a raise.
-const (
-	dualRaises = 200
-	dualProbes = 16
-)
+// dualRaises bounds the raises of one demand in one pass.
+const dualRaises = 200
 
 // dualWork bounds the nodes and edges the ascent scans, over all passes: both passes on
 // campuses of about 100 buildings, a fixed amount of work beyond (a quarter of it where
@@ -198,10 +194,9 @@ func (sv *solver) dualSteers() bool {
 	return len(sv.p.Demands)*len(sv.proposed) <= maxDualWork
 }
 
-// ascendFrom is the ascent from the demands' free levels (-1: no route; 0 for an invalid
-// demand, whose level stays -1). It runs beside the solver (ascendAsync): it must not write
-// the solver or call its searches.
-func (sv *solver) ascendFrom(free []int64) *dualBound {
+// newDualBound sets up the ascent: each edge's budget, all of it left, and each demand's level
+// at its free level (-1 for an invalid demand).
+func (sv *solver) newDualBound(free []int64) *dualBound {
 	p := sv.p
 	ne, nd := len(p.Edges), len(p.Demands)
 	db := &dualBound{level: make([]int64, nd), budget: make([]int64, ne), uses: make([][]dualUse, nd), onPath: make([][]int32, nd), wantBy: map[int32][]int32{}}
@@ -235,6 +230,16 @@ func (sv *solver) ascendFrom(free []int64) *dualBound {
 			db.level[d] = free[d]
 		}
 	}
+	return db
+}
+
+// ascendFrom is the ascent from the demands' free levels (-1: no route; 0 for an invalid
+// demand, whose level stays -1). It runs beside the solver (ascendAsync): it must not write
+// the solver or call its searches.
+func (sv *solver) ascendFrom(free []int64) *dualBound {
+	db := sv.newDualBound(free)
+	sv.forcedPrices(db, free)
+	ne, nd := len(sv.p.Edges), len(sv.p.Demands)
 	work := int64(dualWork)
 	if nd*len(sv.proposed) > maxDualWork {
 		work /= 4 // large campuses: the bound is looser, the solve stays fast
@@ -242,7 +247,8 @@ func (sv *solver) ascendFrom(free []int64) *dualBound {
 	ds, dt := newDualSearch(sv.net.nodes, ne), newDualSearch(sv.net.nodes, 0)
 	dt.w = ds.w // the search back from the anchor prices the same w^d
 	var path []int32
-	var raisedBuf []dualUse
+	var raisedBuf, mustBuf []dualUse
+	cnt := newPathCounts(sv.net.nodes)
 	for pass := 1; pass <= dualPasses; pass++ {
 		for d := 0; d < nd; d++ {
 			if free[d] < 0 || sv.abandon.Load() {
@@ -257,47 +263,31 @@ func (sv *solver) ascendFrom(free []int64) *dualBound {
 			s, t := int32(sv.from[d]), int32(sv.to[d])
 			top := sv.dualRun(db, ds, d, s, t)
 			for it := 0; top >= 0 && it < dualRaises; it++ {
-				// Raise every budgeted edge of the cheapest path by its whole budget left,
-				// search again, and keep of each raise only what the new distances need
-				// (w_e = max(0, |π_u − π_v| − c_e), π the distances from the free end capped
-				// at the new level): the potentials stay feasible, so the level is the new
-				// cheapest path, and a raise the path did not need goes back to the budget.
+				// First the budgeted edges on every cheapest path (the cut edges of the tight
+				// subgraph), each of which raises the level: raise them all by their whole
+				// budget left, search again, and keep of each raise only what the new
+				// distances need (keepNeeded: the potentials stay feasible, so the level is the
+				// new cheapest path, and a raise the path did not need goes back to the
+				// budget).
 				path = ds.pathTo(sv.net, t, path[:0])
-				// First one edge at a time, fullest budget first: the raise is then exactly
-				// the gain.
-				slices.SortFunc(path, func(a, b int32) int {
-					if db.rem[a] != db.rem[b] {
-						if db.rem[a] > db.rem[b] {
-							return -1
-						}
-						return 1
+				sv.dualRun(db, dt, d, t, s) // the search back from the anchor, for both steps
+				must := cnt.mustEdges(sv, db, ds, dt, d, s, t, path, mustBuf[:0])
+				mustBuf = must
+				if len(must) > 0 {
+					for i := range must {
+						ds.add(must[i].edge, must[i].cents)
 					}
-					return int(a - b)
-				})
-				one := false
-				for i, e := range path {
-					r := db.rem[e]
-					if r <= 0 || i >= dualProbes {
-						break
-					}
-					ds.add(e, r)
 					top2 := sv.dualRun(db, ds, d, s, t)
-					ds.w[e] -= r
-					if gain := min(top2-top, r); gain > 0 {
-						ds.add(e, gain)
-						db.rem[e] -= gain
-						one = true
-						break
+					if top2 > top {
+						sv.keepNeeded(db, ds, d, top2, must)
+						top = sv.dualRun(db, ds, d, s, t)
+						continue
 					}
+					for _, u := range must { // cannot happen save with zero-cost ties
+						ds.w[u.edge] -= u.cents
+					}
+					sv.dualRun(db, ds, d, s, t) // dt still holds the search back at these prices
 				}
-				if one {
-					top = sv.dualRun(db, ds, d, s, t)
-					continue
-				}
-				// No single edge gains (the path has equally cheap alternatives): raise
-				// together the budgeted edges of every cheapest path (the edges {u, v} with
-				// π_s(u) + c_e + w_e + π_t(v) = top, from a search back from the anchor).
-				sv.dualRun(db, dt, d, t, s)
 				raised := raisedBuf[:0]
 				for _, v := range ds.popped {
 					du := ds.dist[v]
@@ -339,18 +329,7 @@ func (sv *solver) ascendFrom(free []int64) *dualBound {
 					}
 					break
 				}
-				pot := func(v int) int64 {
-					if dv := ds.dist[v]; dv >= 0 && dv < top2 {
-						return dv
-					}
-					return top2
-				}
-				for _, u := range raised {
-					ed := &p.Edges[u.edge]
-					need := max(0, abs64(pot(ed.From)-pot(ed.To))-sv.legCost(d, u.edge))
-					db.rem[u.edge] -= need - (ds.w[u.edge] - u.cents)
-					ds.w[u.edge] = need
-				}
+				sv.keepNeeded(db, ds, d, top2, raised)
 				top = sv.dualRun(db, ds, d, s, t)
 			}
 			// The budgeted edges of d's cheapest path at its level: d wants them, priced or not
@@ -380,6 +359,135 @@ func (sv *solver) ascendFrom(free []int64) *dualBound {
 		db.passes = pass
 	}
 	return db.finish(nd)
+}
+
+// forcedPrices gives each single-leg demand, before any search, the whole budget left of the
+// edges that every one of its paths takes (from its free end, as long as the node reached has
+// exactly one other edge the demand may use: a building's only entrance and lateral), in
+// demand order: each raise lifts every path of the demand, so its level, by as much. On
+// campuses too large for the ascent to reach every demand it is most of what the bound gains
+// (the generated 300-building campus: the budget of such edges is 69 million cents).
+func (sv *solver) forcedPrices(db *dualBound, free []int64) {
+	n := sv.net
+	for d := range sv.p.Demands {
+		if free[d] < 0 || db.level[d] < 0 || sv.p.Demands[d].Diverse {
+			continue // a diverse pair's legs could not both take the edge: they have no route
+		}
+		s, t := int32(sv.from[d]), int32(sv.to[d])
+		prev := int32(-1)
+		steps := 0
+		for v := s; v != t && steps < maxForced; steps++ {
+			if v != s && !n.transit(v, int(s)) {
+				break // no path passes v
+			}
+			next, way, ways := int32(-1), int32(-1), 0
+			for _, a := range n.adj[n.start[v]:n.start[v+1]] {
+				if a.edge != prev && a.to != v && sv.legCost(d, a.edge) >= 0 {
+					next, way = a.to, a.edge
+					ways++
+				}
+			}
+			if ways != 1 || next == s {
+				break
+			}
+			if r := db.rem[way]; r > 0 {
+				db.uses[d] = append(db.uses[d], dualUse{way, r})
+				db.rem[way] = 0
+				db.level[d] += r
+			}
+			prev, v = way, next
+		}
+	}
+}
+
+// keepNeeded keeps of each raise in raised (edge, amount just added to ds.w) only what the
+// search's new distances π need, capped at the new level top2: w_e = max(0, |π_u − π_v| − c_e).
+// The potentials stay feasible, so top2 stays the level, and the rest goes back to the budget.
+func (sv *solver) keepNeeded(db *dualBound, ds *dualSearch, d int, top2 int64, raised []dualUse) {
+	pot := func(v int) int64 {
+		if dv := ds.dist[v]; dv >= 0 && dv < top2 {
+			return dv
+		}
+		return top2
+	}
+	for _, u := range raised {
+		ed := &sv.p.Edges[u.edge]
+		need := max(0, abs64(pot(ed.From)-pot(ed.To))-sv.legCost(d, u.edge))
+		db.rem[u.edge] -= need - (ds.w[u.edge] - u.cents)
+		ds.w[u.edge] = need
+	}
+}
+
+// pathCounts is the scratch of mustEdges: per node, the number of cheapest paths from the
+// free end (s) and to the anchor (t), modulo 2^64, valid where the stamps equal stamp.
+type pathCounts struct {
+	fromS, toT []uint64
+	atS, atT   []uint32
+	stamp      uint32
+}
+
+func newPathCounts(nodes int) *pathCounts {
+	return &pathCounts{fromS: make([]uint64, nodes), toT: make([]uint64, nodes), atS: make([]uint32, nodes), atT: make([]uint32, nodes)}
+}
+
+// mustEdges appends to buf, each with its whole budget left, the budgeted edges of path (d's
+// cheapest path at level top, from ds) that lie on every cheapest path: edge u→v does when
+// N_s(u)·N_t(v) = N_s(t), N_s counting the cheapest paths from s over ds's settled nodes and
+// N_t those to t over dt's (dt searched back from t). The counts are modulo 2^64 and assume
+// positive edge costs; a wrong answer only wastes a search (the caller checks the level rose),
+// never the bound.
+func (pc *pathCounts) mustEdges(sv *solver, db *dualBound, ds, dt *dualSearch, d int, s, t int32, path []int32, buf []dualUse) []dualUse {
+	pc.stamp++
+	if pc.stamp == 0 {
+		clear(pc.atS)
+		clear(pc.atT)
+		pc.stamp = 1
+	}
+	n := sv.net
+	count := func(sr *dualSearch, root, goal int32, cnt []uint64, at []uint32) {
+		for _, v := range sr.popped {
+			at[v] = pc.stamp
+			cnt[v] = 0
+		}
+		at[goal], cnt[goal] = pc.stamp, 0
+		cnt[root] = 1
+		for _, u := range sr.popped {
+			if !n.transit(u, int(root)) {
+				continue
+			}
+			du := sr.dist[u]
+			for _, a := range n.adj[n.start[u]:n.start[u+1]] {
+				if at[a.to] != pc.stamp || a.to == root {
+					continue
+				}
+				c := sv.legCost(d, a.edge)
+				if c >= 0 && du+c+sr.w[a.edge] == sr.dist[a.to] {
+					cnt[a.to] += cnt[u]
+				}
+			}
+		}
+	}
+	count(ds, s, t, pc.fromS, pc.atS)
+	count(dt, t, s, pc.toT, pc.atT)
+	total := pc.fromS[t]
+	if total == 0 {
+		return buf
+	}
+	for _, e := range path {
+		r := db.rem[e]
+		if r <= 0 {
+			continue
+		}
+		ed := &n.edges[e]
+		u, v := int32(ed.From), int32(ed.To)
+		if ds.dist[u] > ds.dist[v] {
+			u, v = v, u
+		}
+		if pc.atS[u] == pc.stamp && pc.atT[v] == pc.stamp && pc.fromS[u]*pc.toT[v] == total {
+			buf = append(buf, dualUse{e, r})
+		}
+	}
+	return buf
 }
 
 // finish lists the wanted edges.
