@@ -26,7 +26,7 @@ func TestCatalogReachIEEE(t *testing.T) {
 		{"1000BASE-SX", "om3", 550, 3.56},    // IEEE 802.3 Clause 38, OM2 values used for OM3 (seen)
 		{"1000BASE-SX", "om4", 550, 3.56},    // IEEE 802.3 Clause 38, OM2 values used for OM4 (seen)
 		{"1000BASE-SX", "om5", 550, 3.56},    // OM4's values for OM5 (from memory)
-		{"1000BASE-LX", "os2", 5000, 4.5},    // IEEE 802.3 Clause 38, SMF: 4.5 dB seen in a secondary publication; 4.57 from memory, not confirmed, the lower kept
+		{"1000BASE-LX", "os2", 5000, 4.5},    // IEEE 802.3 Clause 38, SMF: 4.5 dB (the TIA FOTC 1000BASE-LX overview, a summary of Clause 38)
 		{"10GBASE-SR", "om3", 300, 2.6},      // IEEE 802.3 Clause 52: range seen, CIL from memory
 		{"10GBASE-SR", "om4", 400, 2.9},      // IEEE 802.3 Clause 52, 10GBASE-SR on OM4 (seen)
 		{"10GBASE-SR", "om5", 400, 2.9},      // OM4's values for OM5 (from memory)
