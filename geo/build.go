@@ -108,7 +108,7 @@ func BuildContext(ctx context.Context, c *Campus, opt Options) (*Network, error)
 	if b.errs.Len() > 0 {
 		return nil, &b.errs
 	}
-	if err := runSteps(ctx, []func(){b.crossings, func() { n.Warnings = b.warnings() }, n.index}); err != nil {
+	if err := runSteps(ctx, []func(){b.crossings, b.selfCrossings, func() { n.Warnings = b.warnings() }, n.index}); err != nil {
 		return nil, err
 	}
 	return n, nil
