@@ -1,6 +1,7 @@
 package optimize
 
 import (
+	"cmp"
 	"encoding/binary"
 	"math"
 	"slices"
@@ -27,16 +28,17 @@ import (
 // least once, which covers every w_e^d of the demands that use it (a diverse pair's legs share
 // no edge, so they take each w_e^d at most once).
 //
-// Choosing the prices is the heuristic part. For each demand in turn (dualPasses passes, a
-// demand keeping its prices between passes), repeat: find the cheapest path; raise the
-// budgeted edges that lie on every cheapest path (counted from a search out of the free end
-// and one back from the anchor) by their whole budget left; when there are none (every edge
-// has an equally cheap way around it), raise the budgeted edges of every cheapest path
-// together by the least budget left among them. Either way keep of each raise only
-// max(0, |π_u − π_v| − c_e), π the new distances from the free end capped at the new level —
-// feasible potentials, so the level is the new cheapest path, and a raise the path did not
-// need goes back to the budget. The work (nodes and edges scanned) is capped; demands the
-// ascent does not reach keep the bound of their cheapest path with every proposed edge free.
+// Choosing the prices is the heuristic part. For each demand in turn, those with the cheapest
+// free route first (dualPasses passes, a demand keeping its prices between passes), repeat:
+// find the cheapest path; raise the budgeted edges that lie on every cheapest path (counted
+// from a search out of the free end and one back from the anchor) by their whole budget left;
+// when there are none (every edge has an equally cheap way around it), raise the budgeted edges
+// of every cheapest path together by the least budget left among them. Either way keep of each
+// raise only max(0, |π_u − π_v| − c_e), π the new distances from the free end capped at the new
+// level — feasible potentials, so the level is the new cheapest path, and a raise the path did
+// not need goes back to the budget. The work (nodes and edges scanned) is capped; demands the
+// ascent does not reach keep the bound of their cheapest path with every proposed edge free,
+// plus the budgets of the edges all their paths take (forcedPrices, before any search).
 //
 // The bound holds for every plan that routes the same demands and gives each diverse demand
 // at least as many legs as the plan does (the optimizer ranks unrouted demands and missing
@@ -249,8 +251,18 @@ func (sv *solver) ascendFrom(free []int64) *dualBound {
 	var path []int32
 	var raisedBuf, mustBuf []dualUse
 	cnt := newPathCounts(sv.net.nodes)
+	// The demands with the cheapest free route first: their searches are the smallest, so the
+	// capped work reaches more of them, and each has fewer budgets to share. Against index
+	// order: the generated campuses of 100, 300 and 1,000 buildings 20.6 → 16.5 %, 52.3 → 47.0 %
+	// and 46.9 → 46.6 % gap; the CBC quality campus of make test 1.49 → 0.54 % below the
+	// optimum (dearest first: 25.1 %, 52.4 %, 46.6 %).
+	order := make([]int, nd)
+	for i := range order {
+		order[i] = i
+	}
+	slices.SortStableFunc(order, func(a, b int) int { return cmp.Compare(free[a], free[b]) })
 	for pass := 1; pass <= dualPasses; pass++ {
-		for d := 0; d < nd; d++ {
+		for _, d := range order {
 			if free[d] < 0 || sv.abandon.Load() {
 				continue
 			}
