@@ -3,6 +3,7 @@ package optimize
 import (
 	"container/heap"
 	"fmt"
+	"math/rand/v2"
 	"testing"
 )
 
@@ -110,13 +111,18 @@ func freeLevels(sv *solver) []int64 {
 }
 
 // TestAscentDualFeasible checks the ascent's prices on seeded instances of every kind the
-// oracle and the campus tests use (transit-free nodes, charges, diverse pairs, duct data),
-// after the prices of forced edges alone and after the whole ascent.
+// oracle and the campus tests use (transit-free nodes, charges, diverse pairs, duct data), on
+// small ones full of ties (tieInstance), and on two made by hand, after the prices of forced
+// edges alone and after the whole ascent.
 func TestAscentDualFeasible(t *testing.T) {
 	var probs []*Problem
 	for i := 0; i < 60; i++ {
 		probs = append(probs, randomInstance(uint64(7000+i), 12, 10), randomTransitCharges(uint64(7100+i)))
 	}
+	for i := 0; i < 600; i++ {
+		probs = append(probs, tieInstance(uint64(i), i%5 == 0))
+	}
+	probs = append(probs, transitOverdraw())
 	probs = append(probs,
 		campus(campusSpec{buildings: 60, seed: 3, diverseFrac: 0.2, options: 3, capacity: true, proposedPct: 25}),
 		withTransitCharges(campus(campusSpec{buildings: 80, seed: 4, diverseFrac: 0.1, options: 3, capacity: true, proposedPct: 15}), 4),
@@ -193,5 +199,98 @@ func TestForcedPricesLaterals(t *testing.T) {
 	// relaxation prices a pair as twice its cheaper leg).
 	if forced := int64(30+25) * 15000; sol.LowerBoundCents > sol.TotalCents || sol.LowerBoundCents < forced {
 		t.Errorf("bound %d, plan %d: want the bound within the plan and above the forced trenches %d", sol.LowerBoundCents, sol.TotalCents, forced)
+	}
+}
+
+// tieInstance is a small seeded instance full of ties (lengths of 0-3 whole metres), with
+// transit-free nodes, zero-length and parallel edges, self-loops, two media with different
+// exclusions, full ducts, handhole charges, diverse demands and, with bad, an invalid demand
+// (its two ends one node).
+func tieInstance(seed uint64, bad bool) *Problem {
+	r := rand.New(rand.NewPCG(seed, 0x7e57))
+	n := 6 + r.IntN(8)
+	p := &Problem{Nodes: n, AllowNew: true, NoTransit: make([]bool, n)}
+	for v := 1; v < n; v++ {
+		p.NoTransit[v] = r.IntN(3) == 0
+	}
+	add := func(a, b int) {
+		e := Edge{ID: fmt.Sprintf("e%d", len(p.Edges)), From: a, To: b, LengthM: float64(r.IntN(4)), LabourPerMCents: 100}
+		if r.IntN(2) == 0 {
+			e.Proposed, e.FixedCents = true, int64(1+r.IntN(5))*100
+		}
+		if r.IntN(4) == 0 {
+			e.Flags = FlagHighEMI
+		}
+		if !e.Proposed && r.IntN(5) == 0 {
+			e.DuctIDMM, e.Ducts, e.AddDuctPerMCents = 50, 0, 300
+			e.LengthM = max(e.LengthM, 1)
+		}
+		p.Edges = append(p.Edges, e)
+	}
+	for v := 1; v < n; v++ {
+		add(v, r.IntN(v))
+	}
+	for k := n + r.IntN(n); k > 0; k-- {
+		add(r.IntN(n), r.IntN(n))
+	}
+	opts := []Option{
+		{Name: "a", CablePerMCents: 0, FixedCents: 1000, MaxRouteM: 1e6, CableODMM: 6},
+		{Name: "b", CablePerMCents: 50, FixedCents: 500, MaxRouteM: 1e6, CableODMM: 6, ExcludeFlags: FlagHighEMI},
+	}
+	for d := 0; d < 2+r.IntN(5); d++ {
+		o := [][]Option{opts[:1], opts[1:], opts}[r.IntN(3)]
+		p.Demands = append(p.Demands, Demand{ID: fmt.Sprintf("d%d", d), Source: 1 + r.IntN(n-1), Target: 0, Options: o, Diverse: r.IntN(4) == 0})
+	}
+	if bad {
+		p.Demands = append(p.Demands, Demand{ID: "bad", Source: 1, Target: 1, Options: opts})
+	}
+	for v := 0; v < n && len(p.Charges) < 3; v++ {
+		var prop []int
+		for i, e := range p.Edges {
+			if e.Proposed && (e.From == v || e.To == v) && e.From != e.To {
+				prop = append(prop, i)
+			}
+		}
+		if len(prop) >= 2 && r.IntN(2) == 0 {
+			p.Charges = append(p.Charges, Charge{ID: fmt.Sprintf("hh%d", v), Edges: prop, Cents: 300})
+		}
+	}
+	return p
+}
+
+// transitOverdraw: building s (node 0) has two equally cheap ways to the hub t (4), a proposed
+// trench straight there and one by y (3), and a walk as cheap through v (1), another building
+// that routes may not pass. The cut raised when no single edge gains must leave that walk out:
+// counting it priced edge v-x at 5,000 cents against a budget of 200 (review of the ascent,
+// 2026-12-04; the bug predated the must-edge raise).
+func transitOverdraw() *Problem {
+	p := &Problem{Nodes: 5, AllowNew: true, NoTransit: []bool{false, true, false, false, false}}
+	add := func(a, b int, m float64, fixed int64) {
+		e := Edge{ID: fmt.Sprintf("e%d", len(p.Edges)), From: a, To: b, LengthM: m, LabourPerMCents: 100}
+		if fixed > 0 {
+			e.Proposed, e.FixedCents = true, fixed
+		}
+		p.Edges = append(p.Edges, e)
+	}
+	add(0, 1, 1, 200)     // s-v
+	add(1, 2, 1, 200)     // v-x
+	add(2, 4, 50, 0)      // x-t
+	add(0, 4, 52, 100000) // s-t
+	add(0, 2, 200, 0)     // s-x
+	add(0, 3, 26, 100000) // s-y
+	add(3, 4, 26, 0)      // y-t
+	opt := Option{Name: "os2", FixedCents: 0, MaxRouteM: 1e6}
+	p.Demands = []Demand{{ID: "b", Source: 0, Target: 4, Options: []Option{opt}}}
+	return p
+}
+
+// TestAscentInvalidDemand: a demand the solver cannot route (its two ends one node) keeps no
+// level, as the file comment says; planBound skips it either way.
+func TestAscentInvalidDemand(t *testing.T) {
+	p := forcedLaterals()
+	p.Demands = append(p.Demands, Demand{ID: "bad", Source: 3, Target: 3, Options: p.Demands[0].Options})
+	db := newSolver(p, Settings{}).ascend()
+	if got := db.level[len(p.Demands)-1]; got != -1 {
+		t.Errorf("invalid demand: level %d, want -1", got)
 	}
 }
