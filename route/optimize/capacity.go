@@ -301,7 +301,7 @@ type capacity struct {
 func (c *capacity) needed(e int, ods []float64, pack *ductPack) (added int, ok bool) {
 	ed := &c.edges[e]
 	maxAdd := 0
-	if ed.AddDuctPerMCents > 0 {
+	if ed.canAdd() {
 		maxAdd = len(ods)
 	}
 	if c.fits == nil {
@@ -348,7 +348,7 @@ func (c *capacity) extend(e int, from *packState, to *ductPack, more []float64, 
 		}
 	}
 	maxAdd := 0
-	if ed.AddDuctPerMCents > 0 {
+	if ed.canAdd() {
 		maxAdd = total
 	}
 	added = max(0, len(to.load)-ed.Ducts)
@@ -381,7 +381,7 @@ func (c *capacity) prefixNeeds(e int, ods []float64) []int {
 		}
 		if !failed {
 			maxAdd := 0
-			if ed.AddDuctPerMCents > 0 {
+			if ed.canAdd() {
 				maxAdd = i + 1
 			}
 			if added := max(0, len(p.load)-ed.Ducts); added <= maxAdd {

@@ -274,3 +274,64 @@ func TestPackIsPull(t *testing.T) {
 		}
 	}
 }
+
+// TestProposedBuiltToSize checks an opened proposed edge built to size: its opening lays
+// Edge.Ducts ducts (paid in FixedCents), and each duct its cables need beyond them costs
+// AddDuctPerMCents a metre, or nothing at 0, never a trench again. A 50 mm duct takes one
+// 36 mm cable and no second (NFPA 70 Chapter 9 Table 1: 53 % of the area for one cable allows
+// 36.4 mm, 31 % for two allows 27.8 mm each), so three cables over the proposed P need three
+// ducts, two beyond the one its opening lays. The way round costs 200 m more at 3.00 cable
+// and 5.00 labour a metre, 1,600.00 per cable: a duct of 50 m at 10.00 a metre (500.00) is
+// cheaper and all three take P; at 40.00 a metre (2,000.00) only the first does. A 60 mm cable
+// fits no empty 50 mm duct, so P is no way for it: it goes round, and P is not opened.
+func TestProposedBuiltToSize(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		name      string
+		addPerM   int64
+		odMM      float64
+		wantOnP   int
+		wantLaid  int   // EdgeFill.AddedDucts on P: every duct laid
+		wantDucts int64 // Σ AddedDuctCents: the ducts beyond the opening's one
+	}{
+		{"ducts cheaper than the way round", 1000, 36, 3, 3, 2 * 50 * 1000},
+		{"ducts dearer than the way round", 4000, 36, 1, 1, 0},
+		{"ducts at no price", 0, 36, 3, 3, 0},
+		{"a cable no empty duct takes", 1000, 60, 0, 0, 0},
+	} {
+		edges := []Edge{
+			{ID: "P", From: 0, To: 1, LengthM: 50, LabourPerMCents: 500, Proposed: true, FixedCents: 100000,
+				DuctIDMM: 50, Ducts: 1, AddDuctPerMCents: tc.addPerM,
+				AddTrenchPerMCents: 99999, AddTrenchCents: 99999, AddTrenchDucts: 5}, // not read on a proposed edge
+			{ID: "short-b", From: 1, To: 2, LengthM: 50, LabourPerMCents: 500},
+			{ID: "long-a", From: 0, To: 3, LengthM: 150, LabourPerMCents: 500},
+			{ID: "long-b", From: 3, To: 2, LengthM: 150, LabourPerMCents: 500},
+		}
+		p := &Problem{Nodes: 4, Edges: edges, Demands: capDemands(3, tc.odMM), AllowNew: true}
+		sol, err := Solve(p, Settings{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		verify(t, tc.name, p, sol)
+		onP, laid, limited := 0, 0, false
+		for _, f := range sol.Fill {
+			if f.Edge == 0 {
+				onP, laid, limited = f.Cables, f.AddedDucts, f.Limited
+				if f.Ducts != 0 {
+					t.Errorf("%s: P has %d spare ducts in the fill, want 0 (new construction)", tc.name, f.Ducts)
+				}
+			}
+		}
+		var ducts int64
+		for _, r := range sol.Routes {
+			ducts += r.Cost.AddedDuctCents
+		}
+		if onP != tc.wantOnP || laid != tc.wantLaid || ducts != tc.wantDucts || (onP > 0 && !limited) {
+			t.Errorf("%s: %d cables on P, %d ducts laid, added-duct cents %d, limited %v; want %d, %d, %d, true",
+				tc.name, onP, laid, ducts, limited, tc.wantOnP, tc.wantLaid, tc.wantDucts)
+		}
+		if opened := len(sol.Opened) > 0; opened != (tc.wantOnP > 0) {
+			t.Errorf("%s: opened %v", tc.name, sol.Opened)
+		}
+	}
+}

@@ -69,7 +69,10 @@ func (sv *solver) solution() *Solution {
 				ods = append(ods, sv.od(int(u), st.ch[u].opt))
 			}
 			sv.odBuf = ods
-			fill.Ducts, fill.AddedDucts = ed.Ducts, st.added[e]
+			fill.Ducts, fill.AddedDucts = ed.Ducts, ed.LaidDucts(st.added[e])
+			if ed.Proposed {
+				fill.Ducts = 0 // every duct of new construction is laid by the plan
+			}
 			fill.Demands = make([]int, len(users))
 			for i, u := range users {
 				fill.Demands[i] = int(u)

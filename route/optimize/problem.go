@@ -52,18 +52,26 @@ type Edge struct {
 	// Flags holds FlagHighEMI, FlagOutdoor and caller-defined bits.
 	Flags uint64
 
-	// Ducts is the number of spare ducts of internal diameter DuctIDMM (millimetres) on an
-	// existing edge. An edge with DuctIDMM == 0, or a proposed edge (built to size), has
-	// unlimited capacity. Ducts == 0 with DuctIDMM > 0 is an edge whose ducts are full.
+	// Ducts is the number of ducts of internal diameter DuctIDMM (millimetres) the edge's
+	// cables may use without adding one: on an existing edge its spare ducts (0 with
+	// DuctIDMM > 0: its ducts are full); on a proposed edge the ducts its opening lays, paid
+	// in FixedCents. An edge with DuctIDMM == 0 has unlimited capacity.
+	//
+	// A proposed edge with DuctIDMM > 0 is built to size: it gets Ducts ducts, or as many as
+	// its cables need (packed as on an existing edge), whichever is more, all in its one
+	// trench; each beyond Ducts costs AddDuctPerMCents a metre (which may be 0), and only a
+	// cable no empty duct takes makes it over capacity.
 	Ducts    int
 	DuctIDMM float64
 
 	// AddDuctPerMCents is the price, in cents per metre, of adding one duct of DuctIDMM
-	// along this edge when its spare ducts are full; 0 means no duct can be added.
+	// along this edge when its ducts are full; on an existing edge 0 means no duct can be
+	// added.
 	AddDuctPerMCents int64
 
 	// AddTrenchPerMCents is the price, in cents per metre, of the trench or bore the first
-	// added duct needs along this edge: paid once, however many ducts are added.
+	// added duct needs along an existing edge: paid once, however many ducts are added. A
+	// proposed edge's trench is its FixedCents: the three AddTrench fields are not read there.
 	AddTrenchPerMCents int64
 	// AddTrenchCents is the price, in cents, of the work at the ends of that trench, paid
 	// with it: the wall penetrations where the added ducts enter buildings through walls the
@@ -75,8 +83,27 @@ type Edge struct {
 	AddTrenchDucts int
 }
 
-// limited reports whether the edge's capacity is checked.
-func (e *Edge) limited() bool { return !e.Proposed && e.DuctIDMM > 0 }
+// limited reports whether the edge's capacity is checked (and its added ducts priced).
+func (e *Edge) limited() bool { return e.DuctIDMM > 0 }
+
+// canAdd reports whether ducts may be added to the edge when its ducts are full: on a
+// proposed edge always (built to size), on an existing one when they have a price.
+func (e *Edge) canAdd() bool { return e.Proposed || e.AddDuctPerMCents > 0 }
+
+// LaidDucts is how many ducts the plan lays along the edge when its cables need added
+// ducts beyond Ducts: on a proposed edge all of its ducts, Ducts + added; on an existing one
+// none without an added duct, else the added ducts or AddTrenchDucts, whichever is more (one
+// trench beside the full ducts, laid with at least the design's ducts). It is the one count
+// of ducts laid that the cost (Solve's objective) and EdgeFill.AddedDucts read.
+func (e *Edge) LaidDucts(added int) int {
+	switch {
+	case e.Proposed:
+		return e.Ducts + max(added, 0)
+	case added <= 0:
+		return 0
+	}
+	return max(added, e.AddTrenchDucts)
+}
 
 // Option is one candidate medium for a demand.
 type Option struct {

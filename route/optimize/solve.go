@@ -270,7 +270,9 @@ func newSolver(p *Problem, opt Settings) *solver {
 		if e.limited() {
 			sv.limited[i], sv.tracked[i] = true, true
 			sv.ductCent[i] = centsFor(e.LengthM, e.AddDuctPerMCents)
-			sv.trenchCent[i] = centsFor(e.LengthM, e.AddTrenchPerMCents) + e.AddTrenchCents
+			if !e.Proposed { // a proposed edge's trench is its FixedCents
+				sv.trenchCent[i] = centsFor(e.LengthM, e.AddTrenchPerMCents) + e.AddTrenchCents
+			}
 		}
 		if e.Group > 0 {
 			sv.groups[e.Group] = append(sv.groups[e.Group], int32(i))

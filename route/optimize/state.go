@@ -346,15 +346,17 @@ func (sv *solver) remove(d int) choice {
 	return c
 }
 
-// holdsLastDuct reports whether taking a cable of area areaMM2 out of limited edge e would
-// likely save a duct: the last duct of the flushed packing was added and holds no more cable.
-// ductsCents is what k added ducts on edge e cost: the trench once, laid with k ducts or the
-// edge's AddTrenchDucts, whichever is more.
+// ductsCents is what k added ducts on edge e cost: on an existing edge the trench once, laid
+// with Edge.LaidDucts(k) ducts; on a proposed one the k ducts beyond those its FixedCents lays.
 func (sv *solver) ductsCents(e, k int) int64 {
 	if k <= 0 {
 		return 0
 	}
-	return int64(max(k, sv.p.Edges[e].AddTrenchDucts))*sv.ductCent[e] + sv.trenchCent[e]
+	ed := &sv.p.Edges[e]
+	if ed.Proposed {
+		return int64(k) * sv.ductCent[e]
+	}
+	return int64(ed.LaidDucts(k))*sv.ductCent[e] + sv.trenchCent[e]
 }
 
 // nextDuctCents is what one more added duct on edge e costs now.
@@ -370,6 +372,8 @@ func (sv *solver) lastDuctCents(e int) int64 {
 	return sv.ductsCents(e, k) - sv.ductsCents(e, k-1)
 }
 
+// holdsLastDuct reports whether taking a cable of area areaMM2 out of limited edge e would
+// likely save a duct: the last duct of the flushed packing was added and holds no more cable.
 func (sv *solver) holdsLastDuct(e int32, areaMM2 float64) bool {
 	pk := &sv.st.packs[e]
 	n := len(pk.load)
@@ -407,7 +411,7 @@ func (sv *solver) penalty(d, o int, e int32, areaMM2 float64) (int64, bool) {
 			return 0, true
 		case areaMM2 <= st.free[e]+1e-9:
 			return 0, true
-		case sv.p.Edges[e].AddDuctPerMCents > 0 && areaMM2 <= FillOneCable*st.packs[e].areaMM2+1e-9:
+		case sv.p.Edges[e].canAdd() && areaMM2 <= FillOneCable*st.packs[e].areaMM2+1e-9:
 			pen = sv.nextDuctCents(int(e))
 		default:
 			return 0, false
@@ -434,7 +438,7 @@ func (sv *solver) penalty(d, o int, e int32, areaMM2 float64) (int64, bool) {
 	sv.odBuf = ods
 	switch {
 	case sv.cap.fits(int(e), ods, avail):
-	case ed.AddDuctPerMCents > 0 && sv.cap.fits(int(e), ods, avail+1):
+	case ed.canAdd() && sv.cap.fits(int(e), ods, avail+1):
 		pen = sv.nextDuctCents(int(e))
 	default:
 		ok = false

@@ -255,6 +255,13 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 			if n := runHH[sp.ID]; n > 0 {
 				e.FixedCents += m.cents(items.RunHandholes(n))
 			}
+			if sp.Type == geo.TypeDuct && sp.DuctMM > 0 {
+				// Built to size: the opening lays the design's ducts, and every duct its
+				// cables need beyond them is an added duct in the same trench
+				// (optimize.Edge.Ducts; the bill lays what the optimizer packed).
+				e.Ducts, e.DuctIDMM = items.NewDucts(d), sp.DuctMM
+				e.AddDuctPerMCents = m.perM(items.AddedDuct(1))
+			}
 		} else if sp.Type == geo.TypeDuct {
 			e.Ducts, e.DuctIDMM = sp.SpareDucts, sp.DuctMM
 			// One trench or bore beside the span however many ducts it gets, and the ducts;
@@ -263,7 +270,7 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 			if d.AllowNewTrench && m.prices.Check(items.KeysOf(append(work, items.AddedDuct(1)))) == nil && m.perM(items.AddedDuct(1)) > 0 {
 				e.AddDuctPerMCents = m.perM(items.AddedDuct(1))
 				e.AddTrenchPerMCents = m.perM(append(work, m.bidItems(media.BidBases{NewBuriedM: 1})...)...)
-				e.AddTrenchDucts = items.NewDucts(d, 0, nil) // the trench is laid with the design's ducts at least (items.TrenchDucts)
+				e.AddTrenchDucts = items.NewDucts(d) // the trench is laid with the design's ducts at least (optimize.Edge.LaidDucts)
 				// The ducts enter a building through a wall the full ones already enter: a
 				// penetration of their own, paid with the trench.
 				e.AddTrenchCents = m.cents(items.AddedDuctEntrances(m.prices, items.AddedDuctWalls(builtAt, sp))...)
