@@ -15,6 +15,8 @@ import (
 	"spanwright/media"
 	"spanwright/route"
 	"spanwright/route/internal/campusgen"
+	"spanwright/route/internal/testplan"
+	"spanwright/route/internal/testsite"
 	"spanwright/route/items"
 	"spanwright/route/optimize"
 	"spanwright/route/plan"
@@ -150,7 +152,8 @@ func routeIndependentCents(r *route.Result) int64 {
 	for i := range r.Legs {
 		l := &r.Legs[i]
 		if l.Feasible {
-			c += r.Engine.FixedCents(l.Medium, mustRate(r, l.Link.Rate), routing.CableStrands(l.Link.Strands, l.Link.Growth))
+			c += r.Engine.FixedCentsFor(l.Medium, mustRate(r, l.Link.Rate), media.Link{Strands: routing.CableStrands(l.Link.Strands, l.Link.Growth),
+				CopperCables: routing.CopperCables(l.Link.Strands, l.Link.Growth)}) // a 4-pair cable per port pair on copper
 		}
 	}
 	return c
@@ -192,12 +195,16 @@ func modelGap(t *testing.T, r *route.Result) (billOnly, modelOnly int64) {
 		if !l.Feasible {
 			t.Fatalf("leg %s %s infeasible: %s", l.Link.ID, l.Name, l.Reason)
 		}
-		if strings.Contains(l.Choice, "the optimizer routed it for") || l.Inside != "" || l.Cable.Cables != 1 || l.Cable.Joins != 0 {
-			t.Fatalf("leg %s %s: %s, inside %q, %d cables, %d joins: outside what the model meets exactly", l.Link.ID, l.Name, l.Choice, l.Inside, l.Cable.Cables, l.Cable.Joins)
+		if strings.Contains(l.Choice, "the optimizer routed it for") || l.Inside != "" || l.Cable.Joins != 0 {
+			t.Fatalf("leg %s %s: %s, inside %q, %d joins: outside what the model meets exactly", l.Link.ID, l.Name, l.Choice, l.Inside, l.Cable.Joins)
 		}
-		perM := option(l.Link.ID, l.Medium).CablePerMCents
-		if price, _ := p.Price(media.PriceKey{Item: media.PriceCable, Medium: l.Medium, Construction: l.Construction, Count: l.Cable.Size.Count}); price != perM {
-			t.Fatalf("leg %s %s: %s at %d cents a metre, the model's cable %d", l.Link.ID, l.Name, l.Construction, price, perM)
+		opt := option(l.Link.ID, l.Medium)
+		if max(opt.Cables, 1) != l.Cable.Cables {
+			t.Fatalf("leg %s %s: %d cables, the model's %d", l.Link.ID, l.Name, l.Cable.Cables, opt.Cables)
+		}
+		perM := opt.CablePerMCents // all of the leg's cables
+		if price, _ := p.Price(media.PriceKey{Item: media.PriceCable, Medium: l.Medium, Construction: l.Construction, Count: l.Cable.Size.Count}); price*int64(l.Cable.Cables) != perM {
+			t.Fatalf("leg %s %s: %d × %s at %d cents a metre, the model's cable %d", l.Link.ID, l.Name, l.Cable.Cables, l.Construction, price, perM)
 		}
 		billOnly += media.MulCents(perM, l.Cable.LengthM-items.Wasted(r.Plan.Design, l.Cable.ChannelM))
 	}
@@ -228,44 +235,76 @@ func TestOneCostModel(t *testing.T) {
 	for _, seed := range []uint64{1, 2, 3, 4} {
 		t.Run(fmt.Sprint("seed ", seed), func(t *testing.T) {
 			t.Parallel()
-			r := costScenario(t, seed, book)
-			p := r.Engine.PriceBook()
-			model := r.ObjectiveCents - routeIndependentCents(r)
-			var items int64
-			var nItems int
-			for _, q := range r.Estimate.Quantities {
-				if routeDependent(p, q.Item, q.Price, q.Rate) {
-					items += p.Cents(q)
-					nItems++
-				}
-			}
-			lines, lineBound := routeLines(r.Estimate.BOM, p)
-			billOnly, modelOnly := modelGap(t, r)
-			// Items priced on the model's side: per span crossed, its cable, its pull, innerduct
-			// and placing, and its structure loops; per leg the cable and pulls of its ends; per
-			// opened span its new work, duct and handholes.
-			crossed := 0
-			for _, l := range r.Legs {
-				crossed += len(l.Steps)
-			}
-			modelItems := 5*crossed + 4*len(r.Legs) + 5*len(r.Opened)
-			bound := 0.5 * float64(modelItems+nItems)
-			got, want := model, items-billOnly+modelOnly
-			t.Logf("seed %d: objective %s, route-independent %s, model's route part %s; bill's route items %s (lines %s), bill-only (whole-metre cable) %s, model-only %s; %d legs, %d spans opened",
-				seed, media.FormatCents(r.ObjectiveCents), media.FormatCents(r.ObjectiveCents-model), media.FormatCents(model),
-				media.FormatCents(items), media.FormatCents(lines), media.FormatCents(billOnly), media.FormatCents(modelOnly), len(r.Legs), len(r.Opened))
-			if math.Abs(float64(got-want)) > bound {
-				t.Errorf("seed %d: the model's route part %s against the bill's %s: %s apart, more than the rounding bound %.2f cents",
-					seed, media.FormatCents(got), media.FormatCents(want), media.FormatCents(got-want), bound)
-			}
-			if math.Abs(float64(lines-items)) > lineBound {
-				t.Errorf("seed %d: the bill's route lines %s against its items priced alone %s: more than the lines' rounding %.2f cents",
-					seed, media.FormatCents(lines), media.FormatCents(items), lineBound)
-			}
-			if len(r.Opened) == 0 {
-				t.Logf("seed %d: no span opened", seed)
-			}
+			oneCostModel(t, fmt.Sprint("seed ", seed), costScenario(t, seed, book))
 		})
+	}
+	// Copper links of three 4-pair cables each (ANSI/TIA-568.2: one per port pair) sharing a
+	// duct that needs two more for them (NFPA 70 Chapter 9 Table 1 and its jam band; estimate's
+	// TestCopperCablesInTheFill): the model counts every cable's pulls, crew and duct place.
+	t.Run("copper, three cables a leg", func(t *testing.T) {
+		t.Parallel()
+		dir := t.TempDir()
+		if err := os.WriteFile(filepath.Join(dir, "prices.yaml"), costBook(t, "1000BASE-SX: 18.00", "1000BASE-SX: 90000.00",
+			"1000BASE-LX: 22.00", "1000BASE-LX: 90000.00"), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		r, err := testplan.PullSolveJSON(t, testsite.CopperFan(), func(p *plan.Plan) {
+			p.Dir, p.Prices = dir, "prices.yaml"
+			p.Design.AllowOutdoorCopper, p.Design.AllowNewTrench = true, true
+			p.Design.InnerductODMM, p.Design.InnerductIDMM = 0, 0
+			p.Defaults.Rate, p.Defaults.Strands = "1G", 4
+		})
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, l := range r.Legs {
+			if l.Cable.Cables != 3 {
+				t.Fatalf("leg %s: %s, %d cables; want three 4-pair cables", l.Link.ID, l.Medium, l.Cable.Cables)
+			}
+		}
+		oneCostModel(t, "copper", r)
+	})
+}
+
+// oneCostModel is TestOneCostModel's check of one plan.
+func oneCostModel(t *testing.T, name string, r *route.Result) {
+	t.Helper()
+	p := r.Engine.PriceBook()
+	model := r.ObjectiveCents - routeIndependentCents(r)
+	var items int64
+	var nItems int
+	for _, q := range r.Estimate.Quantities {
+		if routeDependent(p, q.Item, q.Price, q.Rate) {
+			items += p.Cents(q)
+			nItems++
+		}
+	}
+	lines, lineBound := routeLines(r.Estimate.BOM, p)
+	billOnly, modelOnly := modelGap(t, r)
+	// Items priced on the model's side: per span crossed, for each cable, its cable, its pull,
+	// innerduct and placing, and its structure loops; per leg the cable and pulls of its ends;
+	// per opened span its new work, duct and handholes.
+	crossed := 0
+	for _, l := range r.Legs {
+		crossed += len(l.Steps) * max(l.Cable.Cables, 1)
+	}
+	modelItems := 5*crossed + 4*len(r.Legs) + 5*len(r.Opened)
+	bound := 0.5 * float64(modelItems+nItems)
+	got, want := model, items-billOnly+modelOnly
+	t.Logf("%s: objective %s, route-independent %s, model's route part %s; bill's route items %s (lines %s), bill-only (whole-metre cable) %s, model-only %s; %d legs, %d spans opened, %d built to size",
+		name, media.FormatCents(r.ObjectiveCents), media.FormatCents(r.ObjectiveCents-model), media.FormatCents(model),
+		media.FormatCents(items), media.FormatCents(lines), media.FormatCents(billOnly), media.FormatCents(modelOnly), len(r.Legs), len(r.Opened),
+		len(r.Estimate.Construction.SizedDucts))
+	if math.Abs(float64(got-want)) > bound {
+		t.Errorf("%s: the model's route part %s against the bill's %s: %s apart, more than the rounding bound %.2f cents",
+			name, media.FormatCents(got), media.FormatCents(want), media.FormatCents(got-want), bound)
+	}
+	if math.Abs(float64(lines-items)) > lineBound {
+		t.Errorf("%s: the bill's route lines %s against its items priced alone %s: more than the lines' rounding %.2f cents",
+			name, media.FormatCents(lines), media.FormatCents(items), lineBound)
+	}
+	if len(r.Opened) == 0 {
+		t.Logf("%s: no span opened", name)
 	}
 }
 

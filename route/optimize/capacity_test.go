@@ -335,3 +335,47 @@ func TestProposedBuiltToSize(t *testing.T) {
 		}
 	}
 }
+
+// TestSeveralCables checks a demand whose option pulls three 36 mm cables side by side
+// (Option.Cables, as a copper link of three 4-pair cables: ANSI/TIA-568.2, one per port): each
+// takes a duct place (a 50 mm duct holds one 36 mm cable: NFPA 70 Chapter 9 Table 1, 53 % for
+// one cable, 31 % for two), and each pays the labour per metre, so the fill counts three
+// cables and three ducts. The short way has one spare duct: three cables need two more. The
+// way round is 200 m longer at 3.00 cable (all three together) and 3 × 5.00 labour a metre,
+// 3,600.00: two 50 m ducts at 10.00 a metre (1,000.00) are cheaper, at 40.00 (4,000.00) dearer.
+func TestSeveralCables(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		name       string
+		addPerM    int64
+		wantShort  bool
+		wantLabour int64
+		wantDucts  int64
+	}{
+		{"ducts cheaper than the way round", 1000, true, 3 * 100 * 500, 2 * 50 * 1000},
+		{"ducts dearer than the way round", 4000, false, 3 * 300 * 500, 0},
+	} {
+		dm := capDemands(1, 36)
+		dm[0].Options[0].Cables = 3
+		p := &Problem{Nodes: 4, Edges: capNet(1, tc.addPerM), Demands: dm}
+		sol, err := Solve(p, Settings{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		verify(t, tc.name, p, sol)
+		r := sol.Routes[0]
+		short := r.Primary.Hops[0].Edge == 0 || r.Primary.Hops[len(r.Primary.Hops)-1].Edge == 0
+		if short != tc.wantShort || r.Cost.LabourCents != tc.wantLabour || r.Cost.AddedDuctCents != tc.wantDucts {
+			t.Errorf("%s: short way %v, labour %d, added-duct cents %d; want %v, %d, %d",
+				tc.name, short, r.Cost.LabourCents, r.Cost.AddedDuctCents, tc.wantShort, tc.wantLabour, tc.wantDucts)
+		}
+		for _, f := range sol.Fill {
+			if f.Cables != 3 {
+				t.Errorf("%s: edge %d carries %d cables, want 3", tc.name, f.Edge, f.Cables)
+			}
+			if f.Edge == 0 && f.AddedDucts != 2 {
+				t.Errorf("%s: %d ducts added on the short way, want 2", tc.name, f.AddedDucts)
+			}
+		}
+	}
+}

@@ -28,6 +28,7 @@ func verifyErr(p *Problem, sol *Solution) error {
 		return fmt.Errorf("got %d routes, want %d", len(sol.Routes), len(p.Demands))
 	}
 	users := make([][]int, len(p.Edges))
+	cablesOn := make([]int, len(p.Edges)) // cables per edge, each of an option's Cables
 	infeasible := map[int]bool{}
 	for _, inf := range sol.Infeasible {
 		infeasible[inf.Demand] = true
@@ -85,8 +86,10 @@ func verifyErr(p *Problem, sol *Solution) error {
 					cableM = e.LengthM
 				}
 				b.CableCents += int64(math.Round(cableM * float64(op.CablePerMCents)))
-				b.LabourCents += int64(math.Round(e.LengthM*float64(e.LabourPerMCents))) + e.PerCableCents
+				// Labour per cable, for each of the option's cables (Option.Cables, 0 meaning 1).
+				b.LabourCents += int64(max(op.Cables, 1)) * (int64(math.Round(e.LengthM*float64(e.LabourPerMCents))) + e.PerCableCents)
 				users[h.Edge] = append(users[h.Edge], d)
+				cablesOn[h.Edge] += max(op.Cables, 1)
 			}
 			if v != dm.Target {
 				return fmt.Errorf("demand %d leg %d: ends at %d, want %d", d, li, v, dm.Target)
@@ -185,8 +188,8 @@ func verifyErr(p *Problem, sol *Solution) error {
 	}
 	var wantDucts int64
 	for _, f := range sol.Fill {
-		if len(users[f.Edge]) != f.Cables {
-			return fmt.Errorf("edge %d: fill says %d cables, routes put %d", f.Edge, f.Cables, len(users[f.Edge]))
+		if cablesOn[f.Edge] != f.Cables {
+			return fmt.Errorf("edge %d: fill says %d cables, routes put %d", f.Edge, f.Cables, cablesOn[f.Edge])
 		}
 		ed := &p.Edges[f.Edge]
 		duct := int64(math.Round(ed.LengthM * float64(ed.AddDuctPerMCents)))
@@ -216,9 +219,12 @@ func verifyErr(p *Problem, sol *Solution) error {
 			if !slices.Equal(us, f.Demands) {
 				return fmt.Errorf("edge %d: fill packs demands %v, routes put %v", f.Edge, f.Demands, us)
 			}
-			ods := make([]float64, len(f.Demands))
-			for i, d := range f.Demands {
-				ods[i] = p.Demands[d].Options[sol.Routes[d].Option].CableODMM
+			var ods []float64 // each cable of each demand (Option.Cables), in the fill's order
+			for _, d := range f.Demands {
+				op := &p.Demands[d].Options[sol.Routes[d].Option]
+				for range max(op.Cables, 1) {
+					ods = append(ods, op.CableODMM)
+				}
 			}
 			a := install.DuctBank{Ducts: min(len(ods), install.MaxBankDucts), IDMM: p.Edges[f.Edge].DuctIDMM}.Pull(ods)
 			used := 0

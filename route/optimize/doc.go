@@ -7,7 +7,7 @@
 //
 // The cost of a plan is, summed exactly in cents,
 //
-//	Σ demands Σ legs Σ edges   round(CableM × CablePerMCents) + round(LengthM × LabourPerMCents) + PerCableCents
+//	Σ demands Σ legs Σ edges   round(CableM × CablePerMCents) + Cables × (round(LengthM × LabourPerMCents) + PerCableCents)
 //	+ Σ opened proposed edges FixedCents (paid once, however many cables use the edge)
 //	+ Σ paid charges           Charge.Cents (once, however many of its edges and cables)
 //	+ Σ existing edges with added ducts

@@ -130,7 +130,17 @@ type Option struct {
 	// CableODMM is the cable's outside diameter in millimetres, used for duct fill; 0 means
 	// the cable takes no duct area.
 	CableODMM float64
+
+	// Cables is how many cables of CableODMM a leg of the option pulls side by side (a copper
+	// link of several 4-pair cables, ANSI/TIA-568.2: one per port; a fibre count above the
+	// largest cable's); 0 means 1. Each takes its place in the ducts and pays every edge's
+	// per-cable prices (LabourPerMCents, PerCableCents); CablePerMCents is the price of all of
+	// them together.
+	Cables int
 }
+
+// cables is how many cables a leg of the option pulls: Cables, at least 1.
+func (o *Option) cables() int { return max(o.Cables, 1) }
 
 // Demand is one link to route from Source to Target, with the media that may carry it.
 type Demand struct {
@@ -144,8 +154,9 @@ type Demand struct {
 	Options []Option
 }
 
-// FitsFunc reports whether cables of the given outside diameters (millimetres, in demand order)
-// can be pulled into ducts ducts of edge edge (an index into Problem.Edges). It must be
+// FitsFunc reports whether cables of the given outside diameters (millimetres, in demand order,
+// a demand's diameter listed once for each of its Option.Cables) can be pulled into ducts
+// ducts of edge edge (an index into Problem.Edges). It must be
 // deterministic and must not return false for a set that fits in fewer ducts.
 type FitsFunc func(edge int, cableODsMM []float64, ducts int) bool
 
@@ -374,6 +385,7 @@ const (
 	maxFixedCents = 1e13    // one hundred billion currency units
 	maxReachM     = 1e9     // longer reach counts as none
 	maxODMM       = 1000.0  // a cable wider than a metre is an input error
+	maxCables     = 1000    // cables a leg pulls side by side (install.MaxBankDucts ducts of one each)
 	maxOptionCent = 1e13    // option prices
 	mmPerM        = 1000.0  // lengths are compared in whole millimetres
 	unlimitedMM   = 1 << 62 // reach of an option without limit, in mm
@@ -411,6 +423,9 @@ func demandProblem(p *Problem, d *Demand) string {
 		}
 		if !finiteNonNeg(o.CableODMM) || o.CableODMM > maxODMM {
 			msgs = append(msgs, fmt.Sprintf("%s: cable OD: want mm in [0, %v], got %v", name, maxODMM, o.CableODMM))
+		}
+		if o.Cables < 0 || o.Cables > maxCables {
+			msgs = append(msgs, fmt.Sprintf("%s: cables: want [0, %d], got %d", name, maxCables, o.Cables))
 		}
 	}
 	return strings.Join(msgs, "; ")
@@ -451,8 +466,10 @@ func cableCents(e *Edge, perMCents int64) int64 {
 	return centsFor(m, perMCents)
 }
 
-// labourCents is edge e's labour for one cable: per metre, and per cable.
-func labourCents(e *Edge) int64 { return centsFor(e.LengthM, e.LabourPerMCents) + e.PerCableCents }
+// labourCents is edge e's labour for n cables: per metre, and per cable, n times.
+func labourCents(e *Edge, n int) int64 {
+	return int64(n) * (centsFor(e.LengthM, e.LabourPerMCents) + e.PerCableCents)
+}
 
 // lengthMM returns an edge length in whole millimetres.
 func lengthMM(lengthM float64) int64 { return int64(math.Round(lengthM * mmPerM)) }

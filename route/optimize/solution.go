@@ -41,7 +41,7 @@ func (l Leg) Nodes(edges []Edge) []int {
 // all routes add up to Solution.TotalCents.
 type Breakdown struct {
 	CableCents  int64 // Σ legs Σ edges round(CableM × CablePerMCents)
-	LabourCents int64 // Σ legs Σ edges round(LengthM × LabourPerMCents) + PerCableCents
+	LabourCents int64 // Σ legs Σ edges Option.Cables × (round(LengthM × LabourPerMCents) + PerCableCents)
 	// ConstructionShareCents is the demand's share of the opened proposed edges it uses: each
 	// edge's FixedCents split equally among its users, the remainder cents to the first user
 	// in the order of Problem.Demands (route hands the optimizer its demands in canonical
@@ -135,7 +135,7 @@ type OptionFailure struct {
 // EdgeFill is the load of one edge that carries at least one cable.
 type EdgeFill struct {
 	Edge   int // index into Problem.Edges
-	Cables int // cables pulled along the edge (a diverse demand's two legs never share one)
+	Cables int // cables pulled along the edge, each of a leg's Option.Cables (a diverse demand's two legs never share one)
 	// Limited is false for an edge with unlimited capacity (no duct data); the duct and area
 	// figures are then zero.
 	Limited bool

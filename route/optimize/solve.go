@@ -74,10 +74,11 @@ func SolveContext(ctx context.Context, p *Problem, opt Settings) (*Solution, err
 	return sv.solution(), nil
 }
 
-// profile is a distinct cost profile: cable price and excluded flags.
+// profile is a distinct cost profile: cable price, excluded flags and cables per leg.
 type profile struct {
 	cablePerM int64
 	exclude   uint64
+	cables    int
 }
 
 type solver struct {
@@ -141,16 +142,18 @@ type solver struct {
 	blk     []uint32 // edges blocked for the current pair search
 	blkSt   uint32
 
-	srch   *search[int64]
-	rc     *rcspScratch
-	ps     *pairScratch
-	pen    []int64
-	penOK  []bool
-	penSt  []uint32
-	penN   uint32
-	odBuf  []float64
-	self   []uint32 // edges of the demand being estimated in place (see estimate)
-	selfSt uint32
+	srch  *search[int64]
+	rc    *rcspScratch
+	ps    *pairScratch
+	pen   []int64
+	penOK []bool
+	penSt []uint32
+	penN  uint32
+	odBuf []float64
+	// manyPack is penaltyMany's scratch packing.
+	manyPack ductPack
+	self     []uint32 // edges of the demand being estimated in place (see estimate)
+	selfSt   uint32
 	// own marks the edges where the last flushed packing holds the cable of the demand being
 	// routed, of area ownArea (mm²); see markOwn and penalty.
 	own     []uint32
@@ -292,7 +295,7 @@ func newSolver(p *Problem, opt Settings) *solver {
 		ends[dm.Target]++
 		for o := range dm.Options {
 			op := &dm.Options[o]
-			pr := profile{cablePerM: op.CablePerMCents, exclude: op.ExcludeFlags}
+			pr := profile{cablePerM: op.CablePerMCents, exclude: op.ExcludeFlags, cables: op.cables()}
 			pi, ok := profIdx[pr]
 			if !ok {
 				pi = len(sv.profiles)
@@ -457,7 +460,7 @@ func (sv *solver) baseFor(pr profile, cents bool) []int64 {
 		case sv.length && !cents:
 			b[i] = sv.net.lenMM[i]
 		default:
-			b[i] = cableCents(e, pr.cablePerM) + labourCents(e)
+			b[i] = cableCents(e, pr.cablePerM) + labourCents(e, pr.cables)
 		}
 	}
 	return b
