@@ -77,12 +77,15 @@ func (sv *solver) solution() *Solution {
 		fill := EdgeFill{Edge: e, Cables: cables[e], Limited: sv.limited[e]}
 		if sv.limited[e] {
 			ed := &p.Edges[e]
-			ods, cnt := sv.odBuf[:0], make([]int32, 0, len(users))
+			ods, cnt := sv.odBuf[:0], sv.cntBuf[:0]
 			for _, u := range users {
 				ods = append(ods, sv.od(int(u), st.ch[u].opt))
 				cnt = append(cnt, int32(sv.cables(int(u), st.ch[u].opt)))
 			}
-			sv.odBuf = ods
+			sv.odBuf, sv.cntBuf = ods, cnt
+			if !sv.multi {
+				cnt = nil // one cable each
+			}
 			fill.Ducts, fill.AddedDucts = ed.Ducts, ed.LaidDucts(st.added[e])
 			if ed.Proposed {
 				fill.Ducts = 0 // every duct of new construction is laid by the plan

@@ -142,14 +142,18 @@ type solver struct {
 	blk     []uint32 // edges blocked for the current pair search
 	blkSt   uint32
 
-	srch  *search[int64]
-	rc    *rcspScratch
-	ps    *pairScratch
-	pen   []int64
-	penOK []bool
-	penSt []uint32
-	penN  uint32
-	odBuf []float64
+	srch   *search[int64]
+	rc     *rcspScratch
+	ps     *pairScratch
+	pen    []int64
+	penOK  []bool
+	penSt  []uint32
+	penN   uint32
+	odBuf  []float64
+	cntBuf []int32 // cables per user beside odBuf (solution)
+	// multi is set when some option pulls several cables (Option.Cables > 1): only then are
+	// the counts kept per limited edge (state.cnt).
+	multi bool
 	// manyPack is penaltyMany's scratch packing.
 	manyPack ductPack
 	self     []uint32 // edges of the demand being estimated in place (see estimate)
@@ -310,6 +314,7 @@ func newSolver(p *Problem, opt Settings) *solver {
 				sv.profLen = append(sv.profLen, sv.lenClass[pr.exclude])
 			}
 			sv.areas = append(sv.areas, circleMM2(op.CableODMM))
+			sv.multi = sv.multi || op.cables() > 1
 			sv.optProf[d] = append(sv.optProf[d], pi)
 			sv.reach[d] = append(sv.reach[d], reachMM(op))
 		}

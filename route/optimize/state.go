@@ -26,7 +26,7 @@ type state struct {
 	sig      []uint64    // per demand: hash of its choice, for skipping moves already tried
 	planH    uint64      // Σ mix(demand, sig): the plan's hash
 	ods      [][]float64 // per limited edge: cable ODs of users, parallel to users
-	cnt      [][]int32   // per limited edge: cables of each user (Option.Cables), parallel to users
+	cnt      [][]int32   // per limited edge: cables of each user (Option.Cables), parallel to users; nil unless solver.multi
 	hsh      []uint64    // per limited edge: set hash of its (demand, OD) pairs
 	packH    []uint64    // per limited edge: the hash its packing was computed for
 	alt      []packState // per limited edge: the packing before the last flush
@@ -185,7 +185,11 @@ func (sv *solver) flush() {
 			if ods := st.ods[e]; appended > 0 && sv.cap.fits == nil && !st.over[e] && int(appended) <= len(ods) {
 				// Cables pulled last: first-fit goes on from the packing before them.
 				tail := len(ods) - int(appended)
-				added, ok = sv.cap.extend(e, alt, cur, ods[tail:], st.cnt[e][tail:])
+				var cnt []int32
+				if sv.multi {
+					cnt = st.cnt[e][tail:]
+				}
+				added, ok = sv.cap.extend(e, alt, cur, ods[tail:], cnt)
 			} else {
 				added, ok = sv.cap.needed(e, st.ods[e], st.cnt[e], cur)
 			}
@@ -296,7 +300,9 @@ func (sv *solver) add(d int, c choice) {
 				if sv.limited[e] {
 					n := sv.cables(d, c.opt)
 					st.ods[e] = slices.Insert(st.ods[e], i, sv.od(d, c.opt))
-					st.cnt[e] = slices.Insert(st.cnt[e], i, int32(n))
+					if sv.multi {
+						st.cnt[e] = slices.Insert(st.cnt[e], i, int32(n))
+					}
 					sv.touch(e, d, sv.od(d, c.opt), n)
 				}
 			}
@@ -340,7 +346,9 @@ func (sv *solver) remove(d int) choice {
 				if sv.limited[e] {
 					st.appendN[e] = -1
 					st.ods[e] = slices.Delete(st.ods[e], i, i+1)
-					st.cnt[e] = slices.Delete(st.cnt[e], i, i+1)
+					if sv.multi {
+						st.cnt[e] = slices.Delete(st.cnt[e], i, i+1)
+					}
 					sv.touch(e, d, sv.od(d, c.opt), sv.cables(d, c.opt))
 				}
 			}
