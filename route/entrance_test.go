@@ -142,7 +142,7 @@ func TestAddedDuctEntersItsOwnWall(t *testing.T) {
 	var modelCents int64
 	walls := 0
 	for _, f := range r.Fill {
-		if f.AddedDucts == 0 {
+		if f.AddedDucts == 0 || prob.Edges[index[f.Span]].Proposed { // beside full ducts only
 			continue
 		}
 		sp := &r.Site.Net.Spans[index[f.Span]]

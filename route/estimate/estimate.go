@@ -257,8 +257,9 @@ type run struct {
 	newFrom map[string][]string
 	// runHH holds the handholes along new construction by span ID, at metres from its From end.
 	runHH map[string][]float64
-	// newDucts holds the ducts each opened duct span that carries cable gets
-	// (items.NewDucts), decided once in ductFill and billed from here in construction.
+	// newDucts holds the ducts each opened duct span is built with (the optimizer's count,
+	// routing.SegmentFill.AddedDucts), read once in ductFill and billed from here in
+	// construction.
 	newDucts map[string]int
 }
 
@@ -724,26 +725,23 @@ func (r *run) ductFill() {
 				Innerduct: design.Innerduct(), Unplaced: true})
 		}
 	}
+	// Every span of limited capacity, new construction among them: its ducts are the spare
+	// ones and those the plan lays (routing.SegmentFill.AddedDucts, the optimizer's count,
+	// which it priced), its cables packed in the optimizer's order. An opened duct span is
+	// built to size, so every duct of it is new (Ducts 0) and only a cable no empty duct
+	// takes is left out.
+	r.newDucts = map[string]int{}
 	for _, f := range r.Fill {
 		if f.Limited {
 			sp, _ := r.Site.Net.Span(f.Span)
 			ods := cables(f.Span, f.Links)
 			bank := install.DuctBank{Ducts: f.Ducts + f.AddedDucts, IDMM: sp.DuctMM}
-			pack(&sp, f.Ducts, bank.Pull(ods), ods, "")
-		}
-	}
-	// The ducts of new construction, built to size: the design's or as many as its cables
-	// need, whichever is more (items.NewDucts), every one new. The optimizer does not limit
-	// them, so there is no order of its to follow: the largest cables go in first
-	// (install.DuctBank.Assign, by the same Load.Takes, which items.NewDucts sized for). Only
-	// a cable no empty duct takes is left out.
-	r.newDucts = map[string]int{}
-	for _, id := range r.Opened {
-		if sp, _ := r.Site.Net.Span(id); sp.Type == geo.TypeDuct && sp.DuctMM > 0 && len(bySpan[id]) > 0 {
-			ods := cables(id, nil)
-			r.newDucts[id] = items.NewDucts(design, sp.DuctMM, ods)
-			bank := install.DuctBank{Ducts: r.newDucts[id], IDMM: sp.DuctMM}
-			pack(&sp, 0, bank.Assign(ods), ods, "; each too large for an empty duct (one cable: 53 % fill)")
+			hint := ""
+			if sp.Status == geo.StatusProposed {
+				r.newDucts[f.Span] = f.AddedDucts
+				hint = "; each too large for an empty duct (one cable: 53 % fill)"
+			}
+			pack(&sp, f.Ducts, bank.Pull(ods), ods, hint)
 		}
 	}
 }
@@ -920,7 +918,7 @@ func (r *run) construction() {
 		sp, _ := s.Net.Span(id)
 		c.newWork(design, &sp, items.MethodOf(r.Engine.PriceBook(), design, &sp), r.newFrom, fromSpan(id))
 		if sp.Type == geo.TypeDuct {
-			n, own := items.NewDucts(design, 0, nil), r.newDucts[id] // items.Opening, built to size
+			n, own := items.NewDucts(design), r.newDucts[id] // items.Opening, built to size
 			if own > n {
 				c.SizedDucts = append(c.SizedDucts, SizedDucts{Span: id, Ducts: own, Design: n, LengthM: sp.LengthM})
 				n = own
@@ -943,7 +941,7 @@ func (r *run) construction() {
 		}
 		lat := &geo.Span{Type: geo.TypeDuct, LengthM: en.LateralM}
 		c.newWork(design, lat, items.MethodOf(r.Engine.PriceBook(), design, lat), r.newFrom, fromEntrance(en))
-		c.AddedDuctM += float64(items.NewDucts(design, 0, nil)) * en.LateralM // no duct size: the design's
+		c.AddedDuctM += float64(items.NewDucts(design)) * en.LateralM // no duct size: the design's
 		c.LateralM += en.LateralM
 		r.newFrom[keyAddedDuct] = append(r.newFrom[keyAddedDuct], fromEntrance(en))
 	}
@@ -962,10 +960,12 @@ func (r *run) construction() {
 	}
 	builtAt := s.BuiltEntriesAt()
 	for _, f := range r.Fill {
-		if f.AddedDucts > 0 {
+		if _, opened := r.newDucts[f.Span]; f.AddedDucts > 0 && !opened {
+			// A trench beside a full duct, laid with the ducts the optimizer priced
+			// (optimize.Edge.LaidDucts).
 			sp, _ := s.Net.Span(f.Span)
 			c.newWork(design, &sp, items.MethodOf(r.Engine.PriceBook(), design, &sp), r.newFrom, fromSpan(f.Span))
-			c.AddedDuctM += float64(items.TrenchDucts(design, f.AddedDucts)) * sp.LengthM
+			c.AddedDuctM += float64(f.AddedDucts) * sp.LengthM
 			r.newFrom[keyAddedDuct] = append(r.newFrom[keyAddedDuct], fromSpan(f.Span))
 			if n := items.AddedDuctWalls(builtAt, &sp); n > 0 {
 				c.AddedDuctWalls += n

@@ -6,7 +6,6 @@ import (
 
 	"spanwright/geo"
 	"spanwright/media"
-	"spanwright/media/install"
 	"spanwright/route/plan"
 	"spanwright/route/site"
 )
@@ -168,40 +167,25 @@ func JoinHandholes(n int) media.Quantity {
 		Unit: media.UnitEach, Amount: float64(n), Price: media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole}}
 }
 
-// NewDucts is how many ducts new construction of a duct pathway of internal diameter idMM
-// (mm) gets when it carries cables of the given outside diameters (mm; innerducts where the
-// design places them): built to size, the design's ducts (plan.Design.NewDucts, at least one)
-// or as many as its cables need (install.DuctsFor: NFPA 70 Chapter 9 Table 1 fill and its jam
-// band, the rule the fill rows check), whichever is more. All are laid in the one trench or
-// bore. Without a diameter (idMM 0, as a counted lateral) it is the design's ducts.
-func NewDucts(d plan.Design, idMM float64, cableODsMM []float64) int {
-	n := max(d.NewDucts, 1)
-	if idMM > 0 {
-		n = max(n, install.DuctsFor(idMM, cableODsMM))
-	}
-	return n
-}
-
-// TrenchDucts is how many ducts a trench or bore beside a full duct span is laid with when
-// the plan adds added ducts there: those, or the design's (NewDucts without a size), whichever
-// is more. The optimizer prices them so (optimize.Edge.AddTrenchDucts) and the bill lays them.
-func TrenchDucts(d plan.Design, added int) int {
-	if added <= 0 {
-		return 0
-	}
-	return max(added, NewDucts(d, 0, nil))
-}
+// NewDucts is how many ducts new construction of a duct pathway is laid with at least: the
+// design's (plan.Design.NewDucts), at least one. An opened duct span is built to size: it
+// gets as many more as its cables need, packed by install.Load.Takes (NFPA 70 Chapter 9
+// Table 1 fill and its jam band, the rule the fill rows check), each an AddedDuct in the same
+// trench; a trench beside a full duct gets the ducts its cables need or these, whichever is
+// more. The optimizer decides both counts (optimize.Edge.LaidDucts) and prices each duct with
+// AddedDuct, and the bill lays what it decided (routing.SegmentFill.AddedDucts). A counted
+// lateral has no duct size to pack by: it gets these.
+func NewDucts(d plan.Design) int { return max(d.NewDucts, 1) }
 
 // Opening is what opening a proposed span built by method takes: its new work, and the
-// design's ducts (plan.Design.NewDucts, at least one) when it is a duct. The bill lays more
-// where the cables need them (NewDucts); the optimizer, which prices opening a span before
-// it knows its cables, does not (README, "One cost model"). The handholes along
+// design's ducts (NewDucts) when it is a duct. The ducts its cables need beyond those are
+// AddedDuct each, priced by the optimizer and laid by the bill alike (NewDucts). The handholes along
 // its run are RunHandholes; those where it joins the network are charges of their junctions,
 // paid once however many opened spans meet there (package routing, layout).
 func Opening(d plan.Design, sp *geo.Span, method string) []media.Quantity {
 	q := NewWork(d, sp, method, sp.LengthM)
 	if sp.Type == geo.TypeDuct {
-		q = append(q, AddedDuct(float64(NewDucts(d, 0, nil))*sp.LengthM))
+		q = append(q, AddedDuct(float64(NewDucts(d))*sp.LengthM))
 	}
 	return q
 }

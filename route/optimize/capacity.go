@@ -88,6 +88,18 @@ func (p *ductPack) copyFrom(s *packState, ductIDMM float64) {
 	}
 }
 
+// copyOf makes p a copy of packing q.
+func (p *ductPack) copyOf(q *ductPack) {
+	p.ductIDMM, p.areaMM2, p.size = q.ductIDMM, q.areaMM2, q.size
+	p.load = append(p.load[:0], q.load...)
+	p.seg = append(p.seg[:0], q.seg...)
+	p.twos = slices.Grow(p.twos[:0], len(q.twos))[:len(q.twos)]
+	for i := range q.twos {
+		p.twos[i].load = q.twos[i].load
+		p.twos[i].ducts = append(p.twos[i].ducts[:0], q.twos[i].ducts...)
+	}
+}
+
 func (p *ductPack) update(j int) {
 	i := p.size + j
 	p.seg[i] = p.room(j)
@@ -285,25 +297,59 @@ func NFPAFits(ductIDMM float64, cableODsMM []float64, ducts int) bool {
 	return true
 }
 
-// capacity computes, for capacity-limited edges, how many ducts a set of cables needs.
+// capacity computes, for capacity-limited edges, how many ducts a set of cables needs. The
+// cables come as parallel slices: ods[i] the outside diameter of the i-th demand's cables and
+// cnt[i] how many of them it pulls (Option.Cables; cnt nil: one each), placed one after the
+// other.
 type capacity struct {
 	edges []Edge
 	fits  FitsFunc // nil: the NFPA first-fit rule, computed in one pass
 	pack  ductPack // scratch for prefixNeeds and allowedArea
 	needs []int    // prefixNeeds' result, reused
+	flat  []float64
 }
 
-// needed returns how many ducts must be added to edge e for cables of the given ODs, pulled
-// in that order: the ducts added are never removed, so it is the most any prefix of the pull
-// needs. ok is false when the cables cannot all be pulled (a cable wider than a duct allows,
-// or full ducts on an edge where none can be added).
-// With the default rule, pack (if non-nil) receives the packing.
-func (c *capacity) needed(e int, ods []float64, pack *ductPack) (added int, ok bool) {
-	ed := &c.edges[e]
-	maxAdd := 0
-	if ed.AddDuctPerMCents > 0 {
-		maxAdd = len(ods)
+// countAt is cnt[i], or 1 without counts.
+func countAt(cnt []int32, i int) int {
+	if cnt == nil {
+		return 1
 	}
+	return int(cnt[i])
+}
+
+// flatten lists each cable of ods and cnt once, in order (for a FitsFunc), in c.flat.
+func (c *capacity) flatten(ods []float64, cnt []int32) []float64 {
+	c.flat = c.flat[:0]
+	for i, od := range ods {
+		for range countAt(cnt, i) {
+			c.flat = append(c.flat, od)
+		}
+	}
+	return c.flat
+}
+
+// placeAll places the cables of ods and cnt into p in order; false when one fits no duct.
+func placeAll(p *ductPack, ods []float64, cnt []int32) bool {
+	for i, od := range ods {
+		if od <= 0 {
+			continue
+		}
+		for range countAt(cnt, i) {
+			if !p.place(od) {
+				return false
+			}
+		}
+	}
+	return true
+}
+
+// needed returns how many ducts must be added to edge e for the cables of ods and cnt,
+// pulled in that order: the ducts added are never removed, so it is the most any prefix of
+// the pull needs. ok is false when the cables cannot all be pulled (a cable wider than a duct
+// allows, or full ducts on an edge where none can be added).
+// With the default rule, pack (if non-nil) receives the packing.
+func (c *capacity) needed(e int, ods []float64, cnt []int32, pack *ductPack) (added int, ok bool) {
+	ed := &c.edges[e]
 	if c.fits == nil {
 		var local ductPack
 		p := &local
@@ -311,19 +357,19 @@ func (c *capacity) needed(e int, ods []float64, pack *ductPack) (added int, ok b
 			p = pack
 		}
 		p.reset(ed.DuctIDMM)
-		for _, od := range ods {
-			if od <= 0 {
-				continue
-			}
-			if !p.place(od) {
-				return 0, false
-			}
+		if !placeAll(p, ods, cnt) {
+			return 0, false
 		}
 		added = max(0, len(p.load)-ed.Ducts)
-		return added, added <= maxAdd
+		return added, added == 0 || ed.canAdd()
 	}
-	for i := range ods {
-		for !c.fits(e, ods[:i+1], ed.Ducts+added) {
+	flat := c.flatten(ods, cnt)
+	maxAdd := 0
+	if ed.canAdd() {
+		maxAdd = len(flat) // each added duct holds at least one cable
+	}
+	for i := range flat {
+		for !c.fits(e, flat[:i+1], ed.Ducts+added) {
 			added++
 			if added > maxAdd {
 				return 0, false
@@ -334,37 +380,32 @@ func (c *capacity) needed(e int, ods []float64, pack *ductPack) (added int, ok b
 }
 
 // extend is needed for the default rule when the cables are those of packing from (all of
-// which fit) followed by more, pulled last: it copies from into to and places the more there.
-// total is the number of cables in all.
-func (c *capacity) extend(e int, from *packState, to *ductPack, more []float64, total int) (added int, ok bool) {
+// which fit) followed by more (with their counts), pulled last: it copies from into to and
+// places the more there.
+func (c *capacity) extend(e int, from *packState, to *ductPack, more []float64, moreCnt []int32) (added int, ok bool) {
 	ed := &c.edges[e]
 	to.copyFrom(from, ed.DuctIDMM)
-	for _, od := range more {
-		if od <= 0 {
-			continue
-		}
-		if !to.place(od) {
-			return 0, false
-		}
-	}
-	maxAdd := 0
-	if ed.AddDuctPerMCents > 0 {
-		maxAdd = total
+	if !placeAll(to, more, moreCnt) {
+		return 0, false
 	}
 	added = max(0, len(to.load)-ed.Ducts)
-	return added, added <= maxAdd
+	return added, added == 0 || ed.canAdd()
 }
 
-// prefixNeeds returns, for each i, the ducts needed(e, ods[:i+1]) adds, or the value for
-// the previous prefix when that prefix cannot be pulled. The default rule packs first-fit
-// online, so one pass gives every prefix (a custom Fits is asked prefix by prefix).
-func (c *capacity) prefixNeeds(e int, ods []float64) []int {
+// prefixNeeds returns, for each i, the ducts needed(e, ods[:i+1], cnt[:i+1]) adds, or the
+// value for the previous prefix when that prefix cannot be pulled. The default rule packs
+// first-fit online, so one pass gives every prefix (a custom Fits is asked prefix by prefix).
+func (c *capacity) prefixNeeds(e int, ods []float64, cnt []int32) []int {
 	out := slices.Grow(c.needs[:0], len(ods))[:len(ods)]
 	c.needs = out
 	prev := 0
 	if c.fits != nil {
 		for i := range ods {
-			if k, ok := c.needed(e, ods[:i+1], nil); ok {
+			var sub []int32
+			if cnt != nil {
+				sub = cnt[:i+1]
+			}
+			if k, ok := c.needed(e, ods[:i+1], sub, nil); ok {
 				prev = k
 			}
 			out[i] = prev
@@ -376,15 +417,13 @@ func (c *capacity) prefixNeeds(e int, ods []float64) []int {
 	p.reset(ed.DuctIDMM)
 	failed := false
 	for i, od := range ods {
-		if !failed && od > 0 && !p.place(od) {
-			failed = true // this prefix and every longer one cannot be pulled
+		for range countAt(cnt, i) {
+			if !failed && od > 0 && !p.place(od) {
+				failed = true // this prefix and every longer one cannot be pulled
+			}
 		}
 		if !failed {
-			maxAdd := 0
-			if ed.AddDuctPerMCents > 0 {
-				maxAdd = i + 1
-			}
-			if added := max(0, len(p.load)-ed.Ducts); added <= maxAdd {
+			if added := max(0, len(p.load)-ed.Ducts); added == 0 || ed.canAdd() {
 				prev = added
 			}
 		}
@@ -395,13 +434,15 @@ func (c *capacity) prefixNeeds(e int, ods []float64) []int {
 
 // allowedArea returns the cables' area and the NFPA area allowed in the ducts they occupy,
 // packing first-fit in order, in mm².
-func (c *capacity) allowedArea(ductIDMM float64, ods []float64) (usedMM2, allowedMM2 float64) {
+func (c *capacity) allowedArea(ductIDMM float64, ods []float64, cnt []int32) (usedMM2, allowedMM2 float64) {
 	p := &c.pack
 	p.reset(ductIDMM)
-	for _, od := range ods {
-		usedMM2 += circleMM2(od)
-		if od > 0 && !p.place(od) {
-			p.open(od) // too wide for any duct: counted as its own
+	for i, od := range ods {
+		for range countAt(cnt, i) {
+			usedMM2 += circleMM2(od)
+			if od > 0 && !p.place(od) {
+				p.open(od) // too wide for any duct: counted as its own
+			}
 		}
 	}
 	for _, l := range p.load {

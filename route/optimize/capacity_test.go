@@ -274,3 +274,108 @@ func TestPackIsPull(t *testing.T) {
 		}
 	}
 }
+
+// TestProposedBuiltToSize checks an opened proposed edge built to size: its opening lays
+// Edge.Ducts ducts (paid in FixedCents), and each duct its cables need beyond them costs
+// AddDuctPerMCents a metre, or nothing at 0, never a trench again. A 50 mm duct takes one
+// 36 mm cable and no second (NFPA 70 Chapter 9 Table 1: 53 % of the area for one cable allows
+// 36.4 mm, 31 % for two allows 27.8 mm each), so three cables over the proposed P need three
+// ducts, two beyond the one its opening lays. The way round costs 200 m more at 3.00 cable
+// and 5.00 labour a metre, 1,600.00 per cable: a duct of 50 m at 10.00 a metre (500.00) is
+// cheaper and all three take P; at 40.00 a metre (2,000.00) only the first does. A 60 mm cable
+// fits no empty 50 mm duct, so P is no way for it: it goes round, and P is not opened.
+func TestProposedBuiltToSize(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		name      string
+		addPerM   int64
+		odMM      float64
+		wantOnP   int
+		wantLaid  int   // EdgeFill.AddedDucts on P: every duct laid
+		wantDucts int64 // Σ AddedDuctCents: the ducts beyond the opening's one
+	}{
+		{"ducts cheaper than the way round", 1000, 36, 3, 3, 2 * 50 * 1000},
+		{"ducts dearer than the way round", 4000, 36, 1, 1, 0},
+		{"ducts at no price", 0, 36, 3, 3, 0},
+		{"a cable no empty duct takes", 1000, 60, 0, 0, 0},
+	} {
+		edges := []Edge{
+			{ID: "P", From: 0, To: 1, LengthM: 50, LabourPerMCents: 500, Proposed: true, FixedCents: 100000,
+				DuctIDMM: 50, Ducts: 1, AddDuctPerMCents: tc.addPerM,
+				AddTrenchPerMCents: 99999, AddTrenchCents: 99999, AddTrenchDucts: 5}, // not read on a proposed edge
+			{ID: "short-b", From: 1, To: 2, LengthM: 50, LabourPerMCents: 500},
+			{ID: "long-a", From: 0, To: 3, LengthM: 150, LabourPerMCents: 500},
+			{ID: "long-b", From: 3, To: 2, LengthM: 150, LabourPerMCents: 500},
+		}
+		p := &Problem{Nodes: 4, Edges: edges, Demands: capDemands(3, tc.odMM), AllowNew: true}
+		sol, err := Solve(p, Settings{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		verify(t, tc.name, p, sol)
+		onP, laid, limited := 0, 0, false
+		for _, f := range sol.Fill {
+			if f.Edge == 0 {
+				onP, laid, limited = f.Cables, f.AddedDucts, f.Limited
+				if f.Ducts != 0 {
+					t.Errorf("%s: P has %d spare ducts in the fill, want 0 (new construction)", tc.name, f.Ducts)
+				}
+			}
+		}
+		var ducts int64
+		for _, r := range sol.Routes {
+			ducts += r.Cost.AddedDuctCents
+		}
+		if onP != tc.wantOnP || laid != tc.wantLaid || ducts != tc.wantDucts || (onP > 0 && !limited) {
+			t.Errorf("%s: %d cables on P, %d ducts laid, added-duct cents %d, limited %v; want %d, %d, %d, true",
+				tc.name, onP, laid, ducts, limited, tc.wantOnP, tc.wantLaid, tc.wantDucts)
+		}
+		if opened := len(sol.Opened) > 0; opened != (tc.wantOnP > 0) {
+			t.Errorf("%s: opened %v", tc.name, sol.Opened)
+		}
+	}
+}
+
+// TestSeveralCables checks a demand whose option pulls three 36 mm cables side by side
+// (Option.Cables, as a copper link of three 4-pair cables: ANSI/TIA-568.2, one per port): each
+// takes a duct place (a 50 mm duct holds one 36 mm cable: NFPA 70 Chapter 9 Table 1, 53 % for
+// one cable, 31 % for two), and each pays the labour per metre, so the fill counts three
+// cables and three ducts. The short way has one spare duct: three cables need two more. The
+// way round is 200 m longer at 3.00 cable (all three together) and 3 × 5.00 labour a metre,
+// 3,600.00: two 50 m ducts at 10.00 a metre (1,000.00) are cheaper, at 40.00 (4,000.00) dearer.
+func TestSeveralCables(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		name       string
+		addPerM    int64
+		wantShort  bool
+		wantLabour int64
+		wantDucts  int64
+	}{
+		{"ducts cheaper than the way round", 1000, true, 3 * 100 * 500, 2 * 50 * 1000},
+		{"ducts dearer than the way round", 4000, false, 3 * 300 * 500, 0},
+	} {
+		dm := capDemands(1, 36)
+		dm[0].Options[0].Cables = 3
+		p := &Problem{Nodes: 4, Edges: capNet(1, tc.addPerM), Demands: dm}
+		sol, err := Solve(p, Settings{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		verify(t, tc.name, p, sol)
+		r := sol.Routes[0]
+		short := r.Primary.Hops[0].Edge == 0 || r.Primary.Hops[len(r.Primary.Hops)-1].Edge == 0
+		if short != tc.wantShort || r.Cost.LabourCents != tc.wantLabour || r.Cost.AddedDuctCents != tc.wantDucts {
+			t.Errorf("%s: short way %v, labour %d, added-duct cents %d; want %v, %d, %d",
+				tc.name, short, r.Cost.LabourCents, r.Cost.AddedDuctCents, tc.wantShort, tc.wantLabour, tc.wantDucts)
+		}
+		for _, f := range sol.Fill {
+			if f.Cables != 3 {
+				t.Errorf("%s: edge %d carries %d cables, want 3", tc.name, f.Edge, f.Cables)
+			}
+			if f.Edge == 0 && f.AddedDucts != 2 {
+				t.Errorf("%s: %d ducts added on the short way, want 2", tc.name, f.AddedDucts)
+			}
+		}
+	}
+}

@@ -28,6 +28,7 @@ func verifyErr(p *Problem, sol *Solution) error {
 		return fmt.Errorf("got %d routes, want %d", len(sol.Routes), len(p.Demands))
 	}
 	users := make([][]int, len(p.Edges))
+	cablesOn := make([]int, len(p.Edges)) // cables per edge, each of an option's Cables
 	infeasible := map[int]bool{}
 	for _, inf := range sol.Infeasible {
 		infeasible[inf.Demand] = true
@@ -85,8 +86,10 @@ func verifyErr(p *Problem, sol *Solution) error {
 					cableM = e.LengthM
 				}
 				b.CableCents += int64(math.Round(cableM * float64(op.CablePerMCents)))
-				b.LabourCents += int64(math.Round(e.LengthM*float64(e.LabourPerMCents))) + e.PerCableCents
+				// Labour per cable, for each of the option's cables (Option.Cables, 0 meaning 1).
+				b.LabourCents += int64(max(op.Cables, 1)) * (int64(math.Round(e.LengthM*float64(e.LabourPerMCents))) + e.PerCableCents)
 				users[h.Edge] = append(users[h.Edge], d)
+				cablesOn[h.Edge] += max(op.Cables, 1)
 			}
 			if v != dm.Target {
 				return fmt.Errorf("demand %d leg %d: ends at %d, want %d", d, li, v, dm.Target)
@@ -185,12 +188,25 @@ func verifyErr(p *Problem, sol *Solution) error {
 	}
 	var wantDucts int64
 	for _, f := range sol.Fill {
-		if len(users[f.Edge]) != f.Cables {
-			return fmt.Errorf("edge %d: fill says %d cables, routes put %d", f.Edge, f.Cables, len(users[f.Edge]))
+		if cablesOn[f.Edge] != f.Cables {
+			return fmt.Errorf("edge %d: fill says %d cables, routes put %d", f.Edge, f.Cables, cablesOn[f.Edge])
 		}
-		if f.AddedDucts > 0 { // the trench once, laid with the ducts added or AddTrenchDucts, whichever is more
-			wantDucts += int64(max(f.AddedDucts, p.Edges[f.Edge].AddTrenchDucts)) * int64(math.Round(p.Edges[f.Edge].LengthM*float64(p.Edges[f.Edge].AddDuctPerMCents)))
-			wantDucts += int64(math.Round(p.Edges[f.Edge].LengthM*float64(p.Edges[f.Edge].AddTrenchPerMCents))) + p.Edges[f.Edge].AddTrenchCents
+		ed := &p.Edges[f.Edge]
+		duct := int64(math.Round(ed.LengthM * float64(ed.AddDuctPerMCents)))
+		switch {
+		case ed.Proposed && f.Limited:
+			// The fill counts every duct laid; the opening (FixedCents) pays Edge.Ducts of them.
+			if f.Ducts != 0 || f.AddedDucts < ed.Ducts {
+				return fmt.Errorf("edge %d (proposed): fill says %d spare and %d laid, want 0 and at least the %d its opening lays", f.Edge, f.Ducts, f.AddedDucts, ed.Ducts)
+			}
+			wantDucts += int64(f.AddedDucts-ed.Ducts) * duct
+		case f.AddedDucts > 0:
+			// The trench once, laid with the ducts the cables need or AddTrenchDucts, whichever
+			// is more: the fill counts the ducts laid.
+			if f.AddedDucts < ed.AddTrenchDucts {
+				return fmt.Errorf("edge %d: fill says %d ducts laid, fewer than the trench's %d", f.Edge, f.AddedDucts, ed.AddTrenchDucts)
+			}
+			wantDucts += int64(f.AddedDucts)*duct + int64(math.Round(ed.LengthM*float64(ed.AddTrenchPerMCents))) + ed.AddTrenchCents
 		}
 		if f.Limited && f.UsedAreaMM2 > f.AllowedAreaMM2+1e-6 && f.AddedDucts == 0 && p.Fits == nil {
 			return fmt.Errorf("edge %d: %.1f mm² used exceeds %.1f mm² allowed", f.Edge, f.UsedAreaMM2, f.AllowedAreaMM2)
@@ -203,9 +219,12 @@ func verifyErr(p *Problem, sol *Solution) error {
 			if !slices.Equal(us, f.Demands) {
 				return fmt.Errorf("edge %d: fill packs demands %v, routes put %v", f.Edge, f.Demands, us)
 			}
-			ods := make([]float64, len(f.Demands))
-			for i, d := range f.Demands {
-				ods[i] = p.Demands[d].Options[sol.Routes[d].Option].CableODMM
+			var ods []float64 // each cable of each demand (Option.Cables), in the fill's order
+			for _, d := range f.Demands {
+				op := &p.Demands[d].Options[sol.Routes[d].Option]
+				for range max(op.Cables, 1) {
+					ods = append(ods, op.CableODMM)
+				}
 			}
 			a := install.DuctBank{Ducts: min(len(ods), install.MaxBankDucts), IDMM: p.Edges[f.Edge].DuctIDMM}.Pull(ods)
 			used := 0
@@ -214,8 +233,17 @@ func verifyErr(p *Problem, sol *Solution) error {
 					used++
 				}
 			}
-			if a.OK && (p.Edges[f.Edge].AddDuctPerMCents > 0 || used <= p.Edges[f.Edge].Ducts) && f.AddedDucts != max(0, used-p.Edges[f.Edge].Ducts) {
-				return fmt.Errorf("edge %d: %d ducts added, the bill's packing of %v in %g mm ducts uses %d of %d spare",
+			// The ducts laid for the packing's: on a proposed edge its own or as many as the
+			// packing uses, whichever is more; on an existing one the added, or none, or the
+			// trench's fewest, whichever is more.
+			laid := max(0, used-ed.Ducts)
+			if ed.Proposed {
+				laid = max(ed.Ducts, used)
+			} else if laid > 0 {
+				laid = max(laid, ed.AddTrenchDucts)
+			}
+			if a.OK && (ed.Proposed || ed.AddDuctPerMCents > 0 || used <= ed.Ducts) && f.AddedDucts != laid {
+				return fmt.Errorf("edge %d: %d ducts laid, the bill's packing of %v in %g mm ducts uses %d of %d spare",
 					f.Edge, f.AddedDucts, ods, p.Edges[f.Edge].DuctIDMM, used, p.Edges[f.Edge].Ducts)
 			}
 		}

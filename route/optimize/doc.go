@@ -7,11 +7,13 @@
 //
 // The cost of a plan is, summed exactly in cents,
 //
-//	Σ demands Σ legs Σ edges   round(CableM × CablePerMCents) + round(LengthM × LabourPerMCents) + PerCableCents
+//	Σ demands Σ legs Σ edges   round(CableM × CablePerMCents) + Cables × (round(LengthM × LabourPerMCents) + PerCableCents)
 //	+ Σ opened proposed edges FixedCents (paid once, however many cables use the edge)
 //	+ Σ paid charges           Charge.Cents (once, however many of its edges and cables)
-//	+ Σ edges with added ducts max(added, AddTrenchDucts) × round(LengthM × AddDuctPerMCents)
+//	+ Σ existing edges with added ducts
+//	                           LaidDucts(added) × round(LengthM × AddDuctPerMCents)
 //	                           + round(LengthM × AddTrenchPerMCents) + AddTrenchCents (once per edge)
+//	+ Σ opened proposed edges  added × round(LengthM × AddDuctPerMCents) (ducts beyond Edge.Ducts)
 //	+ Σ demands                Option.FixedCents (+ Option.SecondLegCents with a diverse pair)
 //
 // A charge (Problem.Charges) is paid when at least one leg of any demand uses at least one

@@ -73,6 +73,7 @@ func Fingerprint(p *Problem, opt Settings) (sum [sha256.Size]byte, ok bool) {
 			f.float(o.MaxRouteM)
 			f.uint(o.ExcludeFlags)
 			f.float(o.CableODMM)
+			f.int(int64(o.Cables))
 		}
 	}
 	// Transit-free nodes and charges, only when present: the bytes of a problem without them

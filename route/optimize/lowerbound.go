@@ -20,7 +20,7 @@ import (
 // its edges (a route that uses k of its edges is credited k shares, and all users together at
 // most the charge); an edge whose ducts are full (and may get more) has its first added duct
 // and that duct's trench as a fixed charge, when every medium's cable takes duct area; other
-// added ducts are priced at 0. So each edge e has a budget b_e.
+// added ducts (a proposed edge's beyond those its opening lays among them) are priced at 0. So each edge e has a budget b_e.
 //
 // The dual gives each demand d a price w_e^d ≥ 0 on each edge, with Σ_d w_e^d ≤ b_e; any such
 // prices bound every plan from below by Σ_d (option cost + legs × SP_d(c + w^d)), SP_d the

@@ -33,7 +33,7 @@ func (sv *solver) solution() *Solution {
 				e := &p.Edges[h.Edge]
 				legs[i].LengthM += e.LengthM
 				r.Cost.CableCents += cableCents(e, op.CablePerMCents)
-				r.Cost.LabourCents += labourCents(e)
+				r.Cost.LabourCents += labourCents(e, op.cables())
 			}
 			sol.TotalM += legs[i].LengthM
 		}
@@ -48,6 +48,19 @@ func (sv *solver) solution() *Solution {
 		}
 		r.Cost.FixedCents = sv.optionCents(d, c.opt, len(c.legs))
 	}
+	// Cables per edge: every cable of every leg (Option.Cables).
+	cables := make([]int, len(p.Edges))
+	for d, c := range st.ch {
+		if c.opt < 0 {
+			continue
+		}
+		n := sv.cables(d, c.opt)
+		for _, leg := range c.legs {
+			for _, h := range leg {
+				cables[h.Edge] += n
+			}
+		}
+	}
 	// Construction shares and added ducts, edge by edge.
 	for e := range p.Edges {
 		users := st.users[e]
@@ -61,22 +74,29 @@ func (sv *solver) solution() *Solution {
 		if st.count[e] == 0 {
 			continue
 		}
-		fill := EdgeFill{Edge: e, Cables: int(st.count[e]), Limited: sv.limited[e]}
+		fill := EdgeFill{Edge: e, Cables: cables[e], Limited: sv.limited[e]}
 		if sv.limited[e] {
 			ed := &p.Edges[e]
-			ods := sv.odBuf[:0]
+			ods, cnt := sv.odBuf[:0], sv.cntBuf[:0]
 			for _, u := range users {
 				ods = append(ods, sv.od(int(u), st.ch[u].opt))
+				cnt = append(cnt, int32(sv.cables(int(u), st.ch[u].opt)))
 			}
-			sv.odBuf = ods
-			fill.Ducts, fill.AddedDucts = ed.Ducts, st.added[e]
+			sv.odBuf, sv.cntBuf = ods, cnt
+			if !sv.multi {
+				cnt = nil // one cable each
+			}
+			fill.Ducts, fill.AddedDucts = ed.Ducts, ed.LaidDucts(st.added[e])
+			if ed.Proposed {
+				fill.Ducts = 0 // every duct of new construction is laid by the plan
+			}
 			fill.Demands = make([]int, len(users))
 			for i, u := range users {
 				fill.Demands[i] = int(u)
 			}
-			fill.UsedAreaMM2, fill.AllowedAreaMM2 = sv.cap.allowedArea(ed.DuctIDMM, ods)
+			fill.UsedAreaMM2, fill.AllowedAreaMM2 = sv.cap.allowedArea(ed.DuctIDMM, ods, cnt)
 			prev := 0
-			for i, k := range sv.cap.prefixNeeds(e, ods) {
+			for i, k := range sv.cap.prefixNeeds(e, ods, cnt) {
 				if k > prev {
 					r := &sol.Routes[users[i]]
 					c := sv.ductsCents(e, k) - sv.ductsCents(e, prev)
@@ -166,7 +186,7 @@ func (sv *solver) legLess(a, b Leg, op *Option) bool {
 		var c int64
 		for _, h := range l.Hops {
 			e := &sv.p.Edges[h.Edge]
-			c += cableCents(e, op.CablePerMCents) + labourCents(e) + e.FixedCents
+			c += cableCents(e, op.CablePerMCents) + labourCents(e, op.cables()) + e.FixedCents
 		}
 		return c
 	}

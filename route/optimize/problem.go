@@ -52,18 +52,26 @@ type Edge struct {
 	// Flags holds FlagHighEMI, FlagOutdoor and caller-defined bits.
 	Flags uint64
 
-	// Ducts is the number of spare ducts of internal diameter DuctIDMM (millimetres) on an
-	// existing edge. An edge with DuctIDMM == 0, or a proposed edge (built to size), has
-	// unlimited capacity. Ducts == 0 with DuctIDMM > 0 is an edge whose ducts are full.
+	// Ducts is the number of ducts of internal diameter DuctIDMM (millimetres) the edge's
+	// cables may use without adding one: on an existing edge its spare ducts (0 with
+	// DuctIDMM > 0: its ducts are full); on a proposed edge the ducts its opening lays, paid
+	// in FixedCents. An edge with DuctIDMM == 0 has unlimited capacity.
+	//
+	// A proposed edge with DuctIDMM > 0 is built to size: it gets Ducts ducts, or as many as
+	// its cables need (packed as on an existing edge), whichever is more, all in its one
+	// trench; each beyond Ducts costs AddDuctPerMCents a metre (which may be 0), and only a
+	// cable no empty duct takes makes it over capacity.
 	Ducts    int
 	DuctIDMM float64
 
 	// AddDuctPerMCents is the price, in cents per metre, of adding one duct of DuctIDMM
-	// along this edge when its spare ducts are full; 0 means no duct can be added.
+	// along this edge when its ducts are full; on an existing edge 0 means no duct can be
+	// added.
 	AddDuctPerMCents int64
 
 	// AddTrenchPerMCents is the price, in cents per metre, of the trench or bore the first
-	// added duct needs along this edge: paid once, however many ducts are added.
+	// added duct needs along an existing edge: paid once, however many ducts are added. A
+	// proposed edge's trench is its FixedCents: the three AddTrench fields are not read there.
 	AddTrenchPerMCents int64
 	// AddTrenchCents is the price, in cents, of the work at the ends of that trench, paid
 	// with it: the wall penetrations where the added ducts enter buildings through walls the
@@ -75,8 +83,27 @@ type Edge struct {
 	AddTrenchDucts int
 }
 
-// limited reports whether the edge's capacity is checked.
-func (e *Edge) limited() bool { return !e.Proposed && e.DuctIDMM > 0 }
+// limited reports whether the edge's capacity is checked (and its added ducts priced).
+func (e *Edge) limited() bool { return e.DuctIDMM > 0 }
+
+// canAdd reports whether ducts may be added to the edge when its ducts are full: on a
+// proposed edge always (built to size), on an existing one when they have a price.
+func (e *Edge) canAdd() bool { return e.Proposed || e.AddDuctPerMCents > 0 }
+
+// LaidDucts is how many ducts the plan lays along the edge when its cables need added
+// ducts beyond Ducts: on a proposed edge all of its ducts, Ducts + added; on an existing one
+// none without an added duct, else the added ducts or AddTrenchDucts, whichever is more (one
+// trench beside the full ducts, laid with at least the design's ducts). It is the one count
+// of ducts laid that the cost (Solve's objective) and EdgeFill.AddedDucts read.
+func (e *Edge) LaidDucts(added int) int {
+	switch {
+	case e.Proposed:
+		return e.Ducts + max(added, 0)
+	case added <= 0:
+		return 0
+	}
+	return max(added, e.AddTrenchDucts)
+}
 
 // Option is one candidate medium for a demand.
 type Option struct {
@@ -103,7 +130,17 @@ type Option struct {
 	// CableODMM is the cable's outside diameter in millimetres, used for duct fill; 0 means
 	// the cable takes no duct area.
 	CableODMM float64
+
+	// Cables is how many cables of CableODMM a leg of the option pulls side by side (a copper
+	// link of several 4-pair cables, ANSI/TIA-568.2: one per port; a fibre count above the
+	// largest cable's); 0 means 1. Each takes its place in the ducts and pays every edge's
+	// per-cable prices (LabourPerMCents, PerCableCents); CablePerMCents is the price of all of
+	// them together.
+	Cables int
 }
+
+// cables is how many cables a leg of the option pulls: Cables, at least 1.
+func (o *Option) cables() int { return max(o.Cables, 1) }
 
 // Demand is one link to route from Source to Target, with the media that may carry it.
 type Demand struct {
@@ -117,8 +154,9 @@ type Demand struct {
 	Options []Option
 }
 
-// FitsFunc reports whether cables of the given outside diameters (millimetres, in demand order)
-// can be pulled into ducts ducts of edge edge (an index into Problem.Edges). It must be
+// FitsFunc reports whether cables of the given outside diameters (millimetres, in demand order,
+// a demand's diameter listed once for each of its Option.Cables) can be pulled into ducts
+// ducts of edge edge (an index into Problem.Edges). It must be
 // deterministic and must not return false for a set that fits in fewer ducts.
 type FitsFunc func(edge int, cableODsMM []float64, ducts int) bool
 
@@ -347,6 +385,7 @@ const (
 	maxFixedCents = 1e13    // one hundred billion currency units
 	maxReachM     = 1e9     // longer reach counts as none
 	maxODMM       = 1000.0  // a cable wider than a metre is an input error
+	maxCables     = 1000    // cables a leg pulls side by side (install.MaxBankDucts ducts of one each)
 	maxOptionCent = 1e13    // option prices
 	mmPerM        = 1000.0  // lengths are compared in whole millimetres
 	unlimitedMM   = 1 << 62 // reach of an option without limit, in mm
@@ -384,6 +423,9 @@ func demandProblem(p *Problem, d *Demand) string {
 		}
 		if !finiteNonNeg(o.CableODMM) || o.CableODMM > maxODMM {
 			msgs = append(msgs, fmt.Sprintf("%s: cable OD: want mm in [0, %v], got %v", name, maxODMM, o.CableODMM))
+		}
+		if o.Cables < 0 || o.Cables > maxCables {
+			msgs = append(msgs, fmt.Sprintf("%s: cables: want [0, %d], got %d", name, maxCables, o.Cables))
 		}
 	}
 	return strings.Join(msgs, "; ")
@@ -424,8 +466,10 @@ func cableCents(e *Edge, perMCents int64) int64 {
 	return centsFor(m, perMCents)
 }
 
-// labourCents is edge e's labour for one cable: per metre, and per cable.
-func labourCents(e *Edge) int64 { return centsFor(e.LengthM, e.LabourPerMCents) + e.PerCableCents }
+// labourCents is edge e's labour for n cables: per metre, and per cable, n times.
+func labourCents(e *Edge, n int) int64 {
+	return int64(n) * (centsFor(e.LengthM, e.LabourPerMCents) + e.PerCableCents)
+}
 
 // lengthMM returns an edge length in whole millimetres.
 func lengthMM(lengthM float64) int64 { return int64(math.Round(lengthM * mmPerM)) }

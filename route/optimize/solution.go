@@ -41,7 +41,7 @@ func (l Leg) Nodes(edges []Edge) []int {
 // all routes add up to Solution.TotalCents.
 type Breakdown struct {
 	CableCents  int64 // Σ legs Σ edges round(CableM × CablePerMCents)
-	LabourCents int64 // Σ legs Σ edges round(LengthM × LabourPerMCents) + PerCableCents
+	LabourCents int64 // Σ legs Σ edges Option.Cables × (round(LengthM × LabourPerMCents) + PerCableCents)
 	// ConstructionShareCents is the demand's share of the opened proposed edges it uses: each
 	// edge's FixedCents split equally among its users, the remainder cents to the first user
 	// in the order of Problem.Demands (route hands the optimizer its demands in canonical
@@ -135,12 +135,16 @@ type OptionFailure struct {
 // EdgeFill is the load of one edge that carries at least one cable.
 type EdgeFill struct {
 	Edge   int // index into Problem.Edges
-	Cables int // cables pulled along the edge (a diverse demand's two legs never share one)
-	// Limited is false for an edge with unlimited capacity (proposed, or no duct data); the
-	// duct and area figures are then zero.
-	Limited    bool
-	Ducts      int // spare ducts before the plan
-	AddedDucts int // ducts the plan adds
+	Cables int // cables pulled along the edge, each of a leg's Option.Cables (a diverse demand's two legs never share one)
+	// Limited is false for an edge with unlimited capacity (no duct data); the duct and area
+	// figures are then zero.
+	Limited bool
+	// Ducts is the spare ducts before the plan (0 on a proposed edge); AddedDucts the ducts
+	// the plan lays along the edge (Edge.LaidDucts): on an existing edge the trench beside
+	// the full ducts, with as many as its cables need or AddTrenchDucts, whichever is more;
+	// on a proposed edge every duct it is built with.
+	Ducts      int
+	AddedDucts int
 	// UsedAreaMM2 is the cables' cross-section in mm²; AllowedAreaMM2 is the NFPA 70
 	// Chapter 9 Table 1 area allowed in the ducts used, packing the cables first-fit in demand
 	// order (53 % of a duct for one cable, 31 % for two, 40 % for more).

@@ -74,10 +74,11 @@ func SolveContext(ctx context.Context, p *Problem, opt Settings) (*Solution, err
 	return sv.solution(), nil
 }
 
-// profile is a distinct cost profile: cable price and excluded flags.
+// profile is a distinct cost profile: cable price, excluded flags and cables per leg.
 type profile struct {
 	cablePerM int64
 	exclude   uint64
+	cables    int
 }
 
 type solver struct {
@@ -149,8 +150,14 @@ type solver struct {
 	penSt  []uint32
 	penN   uint32
 	odBuf  []float64
-	self   []uint32 // edges of the demand being estimated in place (see estimate)
-	selfSt uint32
+	cntBuf []int32 // cables per user beside odBuf (solution)
+	// multi is set when some option pulls several cables (Option.Cables > 1): only then are
+	// the counts kept per limited edge (state.cnt).
+	multi bool
+	// manyPack is penaltyMany's scratch packing.
+	manyPack ductPack
+	self     []uint32 // edges of the demand being estimated in place (see estimate)
+	selfSt   uint32
 	// own marks the edges where the last flushed packing holds the cable of the demand being
 	// routed, of area ownArea (mm²); see markOwn and penalty.
 	own     []uint32
@@ -270,7 +277,9 @@ func newSolver(p *Problem, opt Settings) *solver {
 		if e.limited() {
 			sv.limited[i], sv.tracked[i] = true, true
 			sv.ductCent[i] = centsFor(e.LengthM, e.AddDuctPerMCents)
-			sv.trenchCent[i] = centsFor(e.LengthM, e.AddTrenchPerMCents) + e.AddTrenchCents
+			if !e.Proposed { // a proposed edge's trench is its FixedCents
+				sv.trenchCent[i] = centsFor(e.LengthM, e.AddTrenchPerMCents) + e.AddTrenchCents
+			}
 		}
 		if e.Group > 0 {
 			sv.groups[e.Group] = append(sv.groups[e.Group], int32(i))
@@ -290,7 +299,7 @@ func newSolver(p *Problem, opt Settings) *solver {
 		ends[dm.Target]++
 		for o := range dm.Options {
 			op := &dm.Options[o]
-			pr := profile{cablePerM: op.CablePerMCents, exclude: op.ExcludeFlags}
+			pr := profile{cablePerM: op.CablePerMCents, exclude: op.ExcludeFlags, cables: op.cables()}
 			pi, ok := profIdx[pr]
 			if !ok {
 				pi = len(sv.profiles)
@@ -305,6 +314,7 @@ func newSolver(p *Problem, opt Settings) *solver {
 				sv.profLen = append(sv.profLen, sv.lenClass[pr.exclude])
 			}
 			sv.areas = append(sv.areas, circleMM2(op.CableODMM))
+			sv.multi = sv.multi || op.cables() > 1
 			sv.optProf[d] = append(sv.optProf[d], pi)
 			sv.reach[d] = append(sv.reach[d], reachMM(op))
 		}
@@ -455,7 +465,7 @@ func (sv *solver) baseFor(pr profile, cents bool) []int64 {
 		case sv.length && !cents:
 			b[i] = sv.net.lenMM[i]
 		default:
-			b[i] = cableCents(e, pr.cablePerM) + labourCents(e)
+			b[i] = cableCents(e, pr.cablePerM) + labourCents(e, pr.cables)
 		}
 	}
 	return b

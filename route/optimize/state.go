@@ -26,6 +26,7 @@ type state struct {
 	sig      []uint64    // per demand: hash of its choice, for skipping moves already tried
 	planH    uint64      // Σ mix(demand, sig): the plan's hash
 	ods      [][]float64 // per limited edge: cable ODs of users, parallel to users
+	cnt      [][]int32   // per limited edge: cables of each user (Option.Cables), parallel to users; nil unless solver.multi
 	hsh      []uint64    // per limited edge: set hash of its (demand, OD) pairs
 	packH    []uint64    // per limited edge: the hash its packing was computed for
 	alt      []packState // per limited edge: the packing before the last flush
@@ -73,7 +74,7 @@ func newState(sv *solver) *state {
 		ne, nd := len(sv.p.Edges), len(sv.p.Demands)
 		st = &state{ch: make([]choice, nd), count: make([]int32, ne), users: make([][]int32, ne),
 			added: make([]int, ne), over: make([]bool, ne), packs: make([]ductPack, ne), sig: make([]uint64, nd),
-			ods: make([][]float64, ne), hsh: make([]uint64, ne), packH: make([]uint64, ne),
+			ods: make([][]float64, ne), cnt: make([][]int32, ne), hsh: make([]uint64, ne), packH: make([]uint64, ne),
 			alt: make([]packState, ne), isDirty: make([]bool, ne), free: make([]float64, ne), appendN: make([]int32, ne), fits: make([]uint8, ne)}
 		if sv.chOn {
 			st.chUse = make([]int32, len(sv.p.Charges))
@@ -92,7 +93,7 @@ func newState(sv *solver) *state {
 	clear(st.fits)
 	st.dirty = st.dirty[:0]
 	for e := range st.users {
-		st.users[e], st.ods[e] = st.users[e][:0], st.ods[e][:0]
+		st.users[e], st.ods[e], st.cnt[e] = st.users[e][:0], st.ods[e][:0], st.cnt[e][:0]
 		st.alt[e].valid = false
 		if sv.limited[e] {
 			st.packs[e].reset(sv.p.Edges[e].DuctIDMM)
@@ -124,6 +125,9 @@ func (st *state) key() key { return key{st.overfull, st.unrouted, st.unmet, st.t
 
 func (sv *solver) od(d, o int) float64 { return sv.p.Demands[d].Options[o].CableODMM }
 
+// cables is how many cables demand d pulls with option o (Option.Cables, at least 1).
+func (sv *solver) cables(d, o int) int { return sv.p.Demands[d].Options[o].cables() }
+
 // Duct packings are computed lazily. add and remove only update an edge's users and a set
 // hash of its (demand, cable OD) pairs; key flushes the edges whose hash differs from the one
 // their packing was computed for. A reroute that keeps its route therefore costs nothing here,
@@ -143,12 +147,14 @@ type packState struct {
 	valid bool
 }
 
-func itemHash(d int, od float64) uint64 { return mix(uint64(d)+1, math.Float64bits(od)) }
+func itemHash(d int, od float64, n int) uint64 {
+	return mix(mix(uint64(d)+1, math.Float64bits(od)), uint64(n))
+}
 
-// touch records that demand d's cable (od) joined or left limited edge e.
-func (sv *solver) touch(e, d int, od float64) {
+// touch records that demand d's n cables (od) joined or left limited edge e.
+func (sv *solver) touch(e, d int, od float64, n int) {
 	st := sv.st
-	st.hsh[e] ^= itemHash(d, od)
+	st.hsh[e] ^= itemHash(d, od, n)
 	if !st.isDirty[e] {
 		st.isDirty[e] = true
 		st.dirty = append(st.dirty, int32(e))
@@ -178,9 +184,14 @@ func (sv *solver) flush() {
 		if !swapWith {
 			if ods := st.ods[e]; appended > 0 && sv.cap.fits == nil && !st.over[e] && int(appended) <= len(ods) {
 				// Cables pulled last: first-fit goes on from the packing before them.
-				added, ok = sv.cap.extend(e, alt, cur, ods[len(ods)-int(appended):], len(ods))
+				tail := len(ods) - int(appended)
+				var cnt []int32
+				if sv.multi {
+					cnt = st.cnt[e][tail:]
+				}
+				added, ok = sv.cap.extend(e, alt, cur, ods[tail:], cnt)
 			} else {
-				added, ok = sv.cap.needed(e, st.ods[e], cur)
+				added, ok = sv.cap.needed(e, st.ods[e], st.cnt[e], cur)
 			}
 		}
 		st.packH[e] = st.hsh[e]
@@ -287,8 +298,12 @@ func (sv *solver) add(d int, c choice) {
 				}
 				st.users[e] = slices.Insert(st.users[e], i, int32(d))
 				if sv.limited[e] {
+					n := sv.cables(d, c.opt)
 					st.ods[e] = slices.Insert(st.ods[e], i, sv.od(d, c.opt))
-					sv.touch(e, d, sv.od(d, c.opt))
+					if sv.multi {
+						st.cnt[e] = slices.Insert(st.cnt[e], i, int32(n))
+					}
+					sv.touch(e, d, sv.od(d, c.opt), n)
 				}
 			}
 		}
@@ -331,7 +346,10 @@ func (sv *solver) remove(d int) choice {
 				if sv.limited[e] {
 					st.appendN[e] = -1
 					st.ods[e] = slices.Delete(st.ods[e], i, i+1)
-					sv.touch(e, d, sv.od(d, c.opt))
+					if sv.multi {
+						st.cnt[e] = slices.Delete(st.cnt[e], i, i+1)
+					}
+					sv.touch(e, d, sv.od(d, c.opt), sv.cables(d, c.opt))
 				}
 			}
 		}
@@ -346,15 +364,17 @@ func (sv *solver) remove(d int) choice {
 	return c
 }
 
-// holdsLastDuct reports whether taking a cable of area areaMM2 out of limited edge e would
-// likely save a duct: the last duct of the flushed packing was added and holds no more cable.
-// ductsCents is what k added ducts on edge e cost: the trench once, laid with k ducts or the
-// edge's AddTrenchDucts, whichever is more.
+// ductsCents is what k added ducts on edge e cost: on an existing edge the trench once, laid
+// with Edge.LaidDucts(k) ducts; on a proposed one the k ducts beyond those its FixedCents lays.
 func (sv *solver) ductsCents(e, k int) int64 {
 	if k <= 0 {
 		return 0
 	}
-	return int64(max(k, sv.p.Edges[e].AddTrenchDucts))*sv.ductCent[e] + sv.trenchCent[e]
+	ed := &sv.p.Edges[e]
+	if ed.Proposed {
+		return int64(k) * sv.ductCent[e]
+	}
+	return int64(ed.LaidDucts(k))*sv.ductCent[e] + sv.trenchCent[e]
 }
 
 // nextDuctCents is what one more added duct on edge e costs now.
@@ -370,6 +390,8 @@ func (sv *solver) lastDuctCents(e int) int64 {
 	return sv.ductsCents(e, k) - sv.ductsCents(e, k-1)
 }
 
+// holdsLastDuct reports whether taking a cable of area areaMM2 out of limited edge e would
+// likely save a duct: the last duct of the flushed packing was added and holds no more cable.
 func (sv *solver) holdsLastDuct(e int32, areaMM2 float64) bool {
 	pk := &sv.st.packs[e]
 	n := len(pk.load)
@@ -405,9 +427,17 @@ func (sv *solver) penalty(d, o int, e int32, areaMM2 float64) (int64, bool) {
 				return sv.lastDuctCents(int(e)), true
 			}
 			return 0, true
+		case sv.cables(d, o) > 1:
+			// Several cables side by side (Option.Cables): pulled last into a copy of the
+			// packing, each as the packing would place it. Rare (a copper link of several
+			// 4-pair cables on a duct), so the copy's O(ducts) does not matter.
+			var ok bool
+			if pen, ok = sv.penaltyMany(int(e), sv.od(d, o), sv.cables(d, o)); !ok {
+				return 0, false
+			}
 		case areaMM2 <= st.free[e]+1e-9:
 			return 0, true
-		case sv.p.Edges[e].AddDuctPerMCents > 0 && areaMM2 <= FillOneCable*st.packs[e].areaMM2+1e-9:
+		case sv.p.Edges[e].canAdd() && areaMM2 <= FillOneCable*st.packs[e].areaMM2+1e-9:
 			pen = sv.nextDuctCents(int(e))
 		default:
 			return 0, false
@@ -430,11 +460,13 @@ func (sv *solver) penalty(d, o int, e int32, areaMM2 float64) (int64, bool) {
 			ods = append(ods, sv.od(int(u), st.ch[u].opt))
 		}
 	}
-	ods = append(ods, sv.od(d, o))
+	for range sv.cables(d, o) {
+		ods = append(ods, sv.od(d, o))
+	}
 	sv.odBuf = ods
 	switch {
 	case sv.cap.fits(int(e), ods, avail):
-	case ed.AddDuctPerMCents > 0 && sv.cap.fits(int(e), ods, avail+1):
+	case ed.canAdd() && sv.cap.fits(int(e), ods, avail+1):
 		pen = sv.nextDuctCents(int(e))
 	default:
 		ok = false
@@ -444,4 +476,22 @@ func (sv *solver) penalty(d, o int, e int32, areaMM2 float64) (int64, bool) {
 	}
 	sv.penSt[e], sv.pen[e], sv.penOK[e] = sv.penN, pen, ok
 	return pen, ok
+}
+
+// penaltyMany is what n cables of outside diameter odMM pulled last along limited edge e
+// would add in ducts, on the packing as last flushed, and whether they can be pulled there.
+func (sv *solver) penaltyMany(e int, odMM float64, n int) (int64, bool) {
+	st, ed := sv.st, &sv.p.Edges[e]
+	p := &sv.manyPack
+	p.copyOf(&st.packs[e])
+	for range n {
+		if !p.place(odMM) {
+			return 0, false
+		}
+	}
+	extra := max(0, len(p.load)-(ed.Ducts+st.added[e]))
+	if extra > 0 && !ed.canAdd() {
+		return 0, false
+	}
+	return sv.ductsCents(e, st.added[e]+extra) - sv.ductsCents(e, st.added[e]), true
 }

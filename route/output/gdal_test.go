@@ -9,6 +9,7 @@ import (
 	"os/exec"
 	"path/filepath"
 	"regexp"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
@@ -103,8 +104,8 @@ func TestGeoPackageGDAL(t *testing.T) {
 	cables := 0
 	for _, f := range r.Fill {
 		cables += f.Cables
-		if f.AddedDucts > 0 {
-			works++
+		if !slices.Contains(r.Opened, f.Span) && f.AddedDucts > 0 {
+			works++ // a trench beside a full duct (an opened span's ducts are its own work's)
 		}
 	}
 	layer := regexp.MustCompile(`(?s)Layer name: (\w+)\n.*?Geometry: ([\w ]+)\nFeature Count: (\d+)\n.*?ID\["EPSG",(\d+)\]`)

@@ -82,7 +82,8 @@ func gpkgLayers() []gpkgout.Layer {
 			Columns: []gpkgout.Column{
 				c("span", tx, "span id"), c("pathway", tx, "pathway id"), c("type", tx, "pathway type"), c("status", tx, "existing or proposed"),
 				c("length_m", re, "span length, metres"), c("cables", in, "cables the plan puts on the span"),
-				c("ducts", in, "ducts on the span (0 where capacity is not limited)"), c("added_ducts", in, "ducts the plan adds"),
+				c("ducts", in, "spare ducts on the span before the plan (0 on new construction and where capacity is not limited)"),
+				c("added_ducts", in, "ducts the plan lays along the span: every duct of an opened duct span; beside an existing span a trench of them, at least design.new_ducts"),
 				c("limited", bo, "whether the span's capacity is limited (ducts)"),
 				c("fill_pct", re, "highest duct fill on the span, percent; none without duct fill"),
 				c("fill_limit_pct", re, "the NFPA 70 limit of that duct, percent"), c("fill_ok", bo, "every duct of the span within its limit"),
@@ -93,7 +94,7 @@ func gpkgLayers() []gpkgout.Layer {
 			Columns: []gpkgout.Column{
 				c("span", tx, "span id"), c("pathway", tx, "pathway id"), c("work", tx, "opened (a proposed pathway), added duct, or lateral (to an entrance)"),
 				c("method", tx, "trench or bore"), c("surface", tx, "surface trenched and restored; none for a bore"),
-				c("length_m", re, "length of new work, metres"), c("added_ducts", in, "ducts laid beside an existing span, at least design.new_ducts (0 for opened)"),
+				c("length_m", re, "length of new work, metres"), c("added_ducts", in, "ducts laid: beside an existing span, at least design.new_ducts; in an opened duct span, all of its ducts (0 for other pathway types)"),
 				c("entrance", tx, "for work lateral: the entrance whose counted lateral is built"),
 			}},
 		{Name: LayerStructures, Geometry: gpkgout.Point,
@@ -246,12 +247,16 @@ func planLayers(ctx context.Context, r *route.Result) ([]gpkgout.Layer, error) {
 		added      int
 	}
 	var works []work
+	laid := map[string]int{}
+	for _, f := range r.Fill {
+		laid[f.Span] = f.AddedDucts // the ducts laid, as billed
+	}
 	for _, id := range r.Opened {
-		works = append(works, work{id, WorkOpened, 0})
+		works = append(works, work{id, WorkOpened, laid[id]})
 	}
 	for _, f := range r.Fill {
-		if f.AddedDucts > 0 {
-			works = append(works, work{f.Span, WorkAddedDuct, items.TrenchDucts(r.Design(), f.AddedDucts)}) // as billed
+		if f.AddedDucts > 0 && !opened[f.Span] {
+			works = append(works, work{f.Span, WorkAddedDuct, f.AddedDucts})
 		}
 	}
 	slices.SortStableFunc(works, func(a, b work) int {

@@ -748,8 +748,9 @@ func legRowOf(r *route.Result, l *routing.Leg, opt Options, med map[string]mediu
 
 // fillRows lists the spans whose ducts limit the fill, those over the NFPA 70 Chapter 9
 // Table 1 area first, then by fill, then by span id; it also counts the spans with no fill
-// limit (tunnel, tray, aerial, buried, proposed trench). It lists at most DetailRows spans
-// and says how many; the count over is of them all.
+// limit (tunnel, tray, aerial, buried, existing or new). It lists at most DetailRows spans
+// and says how many; the count over is of them all. Its ducts are the spare ones and those
+// the plan lays beside them ("2 + 2 added"), or an opened span's, all laid ("3 new").
 func fillRows(r *route.Result) ([]fillRow, int, int, listed) {
 	type f struct {
 		routing.SegmentFill
@@ -786,7 +787,10 @@ func fillRows(r *route.Result) ([]fillRow, int, int, listed) {
 	out := make([]fillRow, shown.Shown)
 	for i, x := range list[:shown.Shown] {
 		ducts := strconv.Itoa(x.Ducts)
-		if x.AddedDucts > 0 {
+		switch {
+		case slices.Contains(r.Opened, x.Span):
+			ducts = strconv.Itoa(x.AddedDucts) + " new"
+		case x.AddedDucts > 0:
 			ducts += " + " + strconv.Itoa(x.AddedDucts) + " added"
 		}
 		w := x.ratio * 100

@@ -149,7 +149,7 @@ func boolCmp(a, b bool) int {
 func optionCmp(a, b optimize.Option) int {
 	return cmp.Or(strings.Compare(a.Name, b.Name), cmp.Compare(a.CablePerMCents, b.CablePerMCents),
 		cmp.Compare(a.FixedCents, b.FixedCents), cmp.Compare(a.MaxRouteM, b.MaxRouteM),
-		cmp.Compare(a.ExcludeFlags, b.ExcludeFlags), cmp.Compare(a.CableODMM, b.CableODMM))
+		cmp.Compare(a.ExcludeFlags, b.ExcludeFlags), cmp.Compare(a.CableODMM, b.CableODMM), cmp.Compare(a.Cables, b.Cables))
 }
 
 // back translates a solution of the canonical problem into one of the original: the same

@@ -255,6 +255,13 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 			if n := runHH[sp.ID]; n > 0 {
 				e.FixedCents += m.cents(items.RunHandholes(n))
 			}
+			if sp.Type == geo.TypeDuct && sp.DuctMM > 0 {
+				// Built to size: the opening lays the design's ducts, and every duct its
+				// cables need beyond them is an added duct in the same trench
+				// (optimize.Edge.Ducts; the bill lays what the optimizer packed).
+				e.Ducts, e.DuctIDMM = items.NewDucts(d), sp.DuctMM
+				e.AddDuctPerMCents = m.perM(items.AddedDuct(1))
+			}
 		} else if sp.Type == geo.TypeDuct {
 			e.Ducts, e.DuctIDMM = sp.SpareDucts, sp.DuctMM
 			// One trench or bore beside the span however many ducts it gets, and the ducts;
@@ -263,7 +270,7 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 			if d.AllowNewTrench && m.prices.Check(items.KeysOf(append(work, items.AddedDuct(1)))) == nil && m.perM(items.AddedDuct(1)) > 0 {
 				e.AddDuctPerMCents = m.perM(items.AddedDuct(1))
 				e.AddTrenchPerMCents = m.perM(append(work, m.bidItems(media.BidBases{NewBuriedM: 1})...)...)
-				e.AddTrenchDucts = items.NewDucts(d, 0, nil) // the trench is laid with the design's ducts at least (items.TrenchDucts)
+				e.AddTrenchDucts = items.NewDucts(d) // the trench is laid with the design's ducts at least (optimize.Edge.LaidDucts)
 				// The ducts enter a building through a wall the full ones already enter: a
 				// penetration of their own, paid with the trench.
 				e.AddTrenchCents = m.cents(items.AddedDuctEntrances(m.prices, items.AddedDuctWalls(builtAt, sp))...)
@@ -399,8 +406,10 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link) (optimize.Demand,
 		}
 	}
 	endItems = append(endItems, items.Crew(m.prices, media.CrewCableEndPrep, 2)...)
-	endItems = append(endItems, m.bidItems(media.BidBases{CableEnds: 2, Legs: 1})...)
-	endBid := m.bidPer(media.BidBases{Structures: 1}, entered)
+	endItems = append(endItems, m.bidItems(media.BidBases{CableEnds: 2})...)
+	// endItems are per cable (the bill counts each of a leg's cables, estimate's legItems);
+	// the bid items per leg once.
+	legBid := m.cents(m.bidItems(media.BidBases{Legs: 1})...)
 	// Inside each end's building: its riser, its service coil and its entrance loop (the
 	// route's own spans inside it are added per leg, fillLeg) — NFPA 70 770.48 counts
 	// unlisted cable from the point of entrance.
@@ -449,16 +458,21 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link) (optimize.Demand,
 			info.excluded = append(info.excluded, fmt.Sprintf("%s: reaches at most %.1f m of channel; risers, slack loops and laterals alone take %.1f m", med, maxCh, maxCh-maxRoute))
 			continue
 		}
+		// The cables a leg pulls side by side and their size: known before routing only up to
+		// the construction the rules pick on the route (cableFit: the largest of those it may
+		// run outdoors), as the bill counts them (CableTakeoff.Fit).
+		od, cables := cableFit(mm, strands, facts.CopperCables)
 		// What the leg takes whatever its path: the cable of its risers, laterals, service coils,
 		// entrance loops and the halves of the structure loops at its ends that its spans leave
-		// out (problem), with waste, and their pulls; a diverse link pays them again for its
-		// second leg, when it gets one.
-		fixed += media.MulCents(perM, items.Wasted(d, ends)) + m.cents(endItems...) + endBid
+		// out (problem), with waste (perM is all its cables'), and for each cable their pulls
+		// and the crew's work at its ends; a diverse link pays them again for its second leg,
+		// when it gets one.
+		fixed += media.MulCents(perM, items.Wasted(d, ends)) + m.cents(times(cables, endItems)...) +
+			m.bidPer(media.BidBases{Structures: 1}, entered*float64(cables)) + legBid
 		second := int64(0)
 		if l.Diverse {
 			second = fixed
 		}
-		od := cableOD(mm, strands, facts.CopperCables)
 		if d.Innerduct() {
 			if !items.InnerductFits(d, od) {
 				exclude |= flagDuct
@@ -468,7 +482,7 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link) (optimize.Demand,
 			od = d.InnerductODMM // ducts hold the innerducts
 		}
 		dm.Options = append(dm.Options, optimize.Option{Name: med, CablePerMCents: perM, FixedCents: fixed, SecondLegCents: second,
-			MaxRouteM: maxRoute, ExcludeFlags: exclude, CableODMM: od})
+			MaxRouteM: maxRoute, ExcludeFlags: exclude, CableODMM: od, Cables: cables})
 		info.options = append(info.options, med)
 	}
 	return dm, info
@@ -551,27 +565,41 @@ func (m *Model) cableFor(medium string, rate float64, facts media.Link, slackM f
 	return v
 }
 
-// cableOD is the outside diameter in millimetres of the cable the duct capacity counts for
-// the medium and strands: the largest of its outdoor-rated constructions' sizes, since the
-// rules pick the leg's construction only once it is routed (on its inside runs), and a duct
-// sized for a thinner one would leave the cable in no duct; of its first construction when
-// none is outdoor-rated.
-func cableOD(m *media.Medium, strands, copperCables int) float64 {
+// cableFit is the outside diameter in millimetres of the cable the duct capacity counts for
+// the medium and strands, and how many such cables a leg pulls side by side (a copper link's
+// 4-pair cables, one per port pair, ANSI/TIA-568.2; a fibre count above the largest size's):
+// the largest of its outdoor-rated constructions' sizes and counts (media.Construction.Fit),
+// since the rules pick the leg's construction only once it is routed (on its inside runs), and
+// a duct sized for a thinner or fewer cables would leave a cable in no duct; of its first
+// construction when none is outdoor-rated. The count is the bill's (CableTakeoff.Fit) when the
+// rules pick the construction with the most; with another, the model counts more cables than
+// the bill (README, "One cost model").
+func cableFit(m *media.Medium, strands, copperCables int) (odMM float64, cables int) {
 	if m.Kind == media.KindCopper {
 		strands = copperCables
 	}
-	od, found := 0.0, false
+	found := false
 	for _, k := range m.Constructions {
 		if k.OutdoorRated {
-			size, _ := k.Fit(strands)
-			od, found = max(od, size.ODMM), true
+			size, n := k.Fit(strands)
+			odMM, cables, found = max(odMM, size.ODMM), max(cables, n), true
 		}
 	}
 	if !found && len(m.Constructions) > 0 {
-		size, _ := m.Constructions[0].Fit(strands)
-		od = size.ODMM
+		size, n := m.Constructions[0].Fit(strands)
+		odMM, cables = size.ODMM, n
 	}
-	return od
+	return odMM, max(cables, 1)
+}
+
+// times is quantities qs for n of what they count (each Amount × n), copied.
+func times(n int, qs []media.Quantity) []media.Quantity {
+	out := make([]media.Quantity, len(qs))
+	for i, q := range qs {
+		q.Amount *= float64(n)
+		out[i] = q
+	}
+	return out
 }
 
 // runsOf is the site's runs of new construction with the handholes the design places along

@@ -262,6 +262,35 @@ func FanCampus(ductMM float64, spare int, proposed bool) string {
 	return `{"type":"FeatureCollection","features":[` + strings.Join(f, ",") + `]}`
 }
 
+// CopperFan is hub A and buildings B and C, 42 and 35 m of pathway from it, both reached over one duct T
+// (one spare duct of 21 mm) that ends at a junction where direct-buried pathways fan out.
+func CopperFan() string {
+	line := func(pts ...float64) string {
+		var s []string
+		for i := 0; i+1 < len(pts); i += 2 {
+			s = append(s, fmt.Sprintf("[%.7f,%.7f]", X(pts[i]), Y(pts[i+1])))
+		}
+		return "[" + strings.Join(s, ",") + "]"
+	}
+	way := func(id, typ, props, coords string) string {
+		return fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":%q,"type":%q%s},"geometry":{"type":"LineString","coordinates":%s}}`,
+			id, typ, props, coords)
+	}
+	// Risers of 3 m: outdoor copper cable, unlisted, may run at most 15 m inside a building
+	// from its point of entrance (NFPA 70 800.48, from memory), riser, service coil and
+	// entrance loop together.
+	box := func(id, role string, x, y float64) string {
+		return strings.Replace(Box(id, role, x, y), `"kind":"building",`, `"kind":"building","riser_m":3,`, 1)
+	}
+	f := []string{
+		box("A", "mc", 10, 25), box("B", "", 32, 25), box("C", "", 20, -20),
+		way("T", "duct", `,"spare_ducts":1,"duct_mm":21`, line(10, 15, 10, 5, 20, 5)),
+		way("FB", "buried", "", line(20, 5, 32, 5, 32, 15)),
+		way("FC", "buried", "", line(20, 5, 20, -10)),
+	}
+	return `{"type":"FeatureCollection","features":[` + strings.Join(f, ",") + `]}`
+}
+
 // demoPlanPath is the demo plan's path, found from this file's own place in the repository
 // (tests run in their package's folder, which differs from package to package).
 func demoPlanPath() string {
