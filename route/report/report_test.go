@@ -181,9 +181,15 @@ func TestPlanContent(t *testing.T) {
 		// The gap to the bound as the terminal prints it (output.GapText, in percent).
 		", gap " + output.GapText(s.GapPct) + " <span",
 		"13,357.8 m", // total route of the demo, as summary.json has it
-		// The safety cautions of the README.
-		"one-call service", "invisible", "NFPA 70 Articles 800/805", "ground potential rise", "confined spaces",
-		"authority having jurisdiction",
+		// The safety cautions the demo's work calls for (route.Result.Cautions): locates, trench
+		// (29 CFR 1926 Subpart P), bore, the pole line, the tunnel, maintenance holes, lasers.
+		"one-call service", "invisible", "confined spaces", "<b>Trench cave-in.</b>", "29 CFR 1926 Subpart P",
+		"<b>Directional bore.</b>", "<b>Pole lines.</b>", "29 CFR 1910.268(n)", "<b>Utility tunnels.</b>",
+		"In this plan: 3 legs on aerial pathways ", "authority having jurisdiction",
+		// The cable's own jacket beside the medium: the demo's outside-plant legs are black
+		// (TIA-598: outside-plant jackets usually black, as the catalog says, seen), and its
+		// sources name the PHYs it uses (IEEE 802.3).
+		"jacket black", "jacket yellow", "100GBASE-DR",
 		// TIA-598 premises jacket colour of single-mode (REFERENCES.md, seen), named beside the swatch.
 		"os2, OS2 single-mode: yellow", "NFPA 70 Chapter 9 Table 1", "IEEE 802.3",
 		// Legend entries the demo needs: tunnel, pole line, proposed trench, high EMI, structures.
