@@ -162,3 +162,42 @@ func TestDemoCautions(t *testing.T) {
 		}
 	}
 }
+
+// TestDirectBurialOnBuriedSpans: on the fan campus every link's cable is laid along an
+// existing direct-buried pathway (FB, FC, FE) after the duct T. Every feasible leg lays a
+// construction the catalog rates for direct burial (rule direct-burial: ICEA S-87-640 and
+// Telcordia GR-20 outside-plant cable, from memory), and the plan's cautions name the
+// digging beside the buried cable and the locates it needs (common practice, no published
+// source).
+func TestDirectBurialOnBuriedSpans(t *testing.T) {
+	t.Parallel()
+	r, err := testplan.PullSolveJSON(t, testsite.FanCampus(100, 2, false), nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	buried := 0
+	for _, l := range r.Legs {
+		if !l.Feasible {
+			t.Fatalf("%s/%s infeasible: %s", l.Link.ID, l.Name, l.Reason)
+		}
+		k := r.Engine.Catalog().Medium(l.Medium).Construction(l.Construction)
+		for _, st := range l.Steps {
+			if sp, _ := r.Site.Net.Span(st.SpanID); sp.Type == "buried" {
+				buried++
+				if !k.DirectBurialRated {
+					t.Errorf("%s/%s is laid along buried span %s on %s, not rated for direct burial", l.Link.ID, l.Name, sp.ID, k.ID)
+				}
+				break
+			}
+		}
+	}
+	if buried != len(r.Legs) || buried == 0 {
+		t.Fatalf("%d of %d legs on a buried span: the campus no longer tests direct burial", buried, len(r.Legs))
+	}
+	if w, want := cautionOf(t, r, route.CautionBuried).Where, "3 legs laid along existing direct-buried pathways FB, FC, FE"; w != want {
+		t.Errorf("buried caution: where %q, want %q", w, want)
+	}
+	if w := cautionOf(t, r, route.CautionLocates).Where; !strings.Contains(w, "direct-buried pathways FB, FC, FE") {
+		t.Errorf("locates caution: where %q does not name the buried pathways", w)
+	}
+}
