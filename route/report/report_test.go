@@ -5,6 +5,7 @@ import (
 	"context"
 	"encoding/json"
 	"fmt"
+	"html/template"
 	"math"
 	"regexp"
 	"strings"
@@ -493,5 +494,40 @@ func TestDiametersInUnits(t *testing.T) {
 	}
 	if got := imperial.diameter(101.6); got != "4.00" {
 		t.Errorf("a 4 in duct in inches: %q, want 4.00", got)
+	}
+}
+
+// TestPlanCautionsFromResult: the report's Safety section is the result's one list of
+// cautions (route.Result.Cautions), in its order, each with what in the plan calls for it and
+// its source; with none it says so rather than leaving an empty list, and still defers to the
+// local codes and the authority having jurisdiction.
+func TestPlanCautionsFromResult(t *testing.T) {
+	r := *result(t, demoPlan)
+	b, err := Plan(context.Background(), &r, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	html := string(b)
+	at := 0
+	for _, c := range r.Cautions {
+		i := strings.Index(html[at:], "<b>"+template.HTMLEscapeString(c.Title)+".</b>")
+		if i < 0 {
+			t.Fatalf("caution %q missing, or out of the result's order", c.Title)
+		}
+		at += i
+		if !strings.Contains(html[at:], "In this plan: "+template.HTMLEscapeString(c.Where)+". Source: "+template.HTMLEscapeString(c.Source)) {
+			t.Errorf("caution %q: its where and source are not beside it", c.Title)
+		}
+	}
+	r.Cautions = nil
+	b, err = Plan(context.Background(), &r, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	html = string(b)
+	for _, want := range []string{"calls for none of the cautions", "authority having jurisdiction"} {
+		if !strings.Contains(html, want) {
+			t.Errorf("a plan with no cautions: the report lacks %q", want)
+		}
 	}
 }
