@@ -784,7 +784,7 @@ func cautionLine(r *route.Result, bom bool) string {
 	if bom {
 		where += " and bom.xlsx (sheet " + SheetSafety + ")"
 	}
-	return fmt.Sprintf("safety: %s for this plan's work: %s; %s say what to do", Counted(len(r.Cautions), "caution", "cautions"),
+	return fmt.Sprintf("safety: %s for this plan's work: %s; %s say what to do (local codes and the authority having jurisdiction prevail)", Counted(len(r.Cautions), "caution", "cautions"),
 		strings.ToLower(strings.Join(route.CautionTitles(r.Cautions), ", ")), where)
 }
 
