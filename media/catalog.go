@@ -102,8 +102,11 @@ type Construction struct {
 	Listing      string // NFPA 70 listing (OFNR, OFNP, CMR, CMP), "" when unlisted
 	OutdoorRated bool   // may run outside buildings
 	PlenumRated  bool
-	JacketColour string        // the medium's colour unless the construction overrides it
-	Attenuation  []Attenuation // ascending wavelength; empty for copper
+	// DirectBurialRated says the construction may be laid in the earth with no duct (a
+	// direct-buried pathway, type buried): catalog key direct_burial_rated, false when absent.
+	DirectBurialRated bool
+	JacketColour      string        // the medium's colour unless the construction overrides it
+	Attenuation       []Attenuation // ascending wavelength; empty for copper
 	// Minimum bend radius as a multiple of the cable's outside diameter, with no load and at
 	// rated pulling tension.
 	BendRadiusUnloadedOD float64
@@ -390,6 +393,7 @@ type constructionYAML struct {
 	Listing              string          `yaml:"listing"`
 	OutdoorRated         bool            `yaml:"outdoor_rated"`
 	PlenumRated          bool            `yaml:"plenum_rated"`
+	DirectBurialRated    bool            `yaml:"direct_burial_rated"`
 	JacketColour         string          `yaml:"jacket_colour"`
 	Attenuation          map[int]float64 `yaml:"attenuation_db_per_km" range:"db-per-km" keyrange:"nm"`
 	BendRadiusUnloadedOD float64         `yaml:"bend_radius_unloaded_od" range:"od"`
@@ -702,7 +706,7 @@ func (c checker) construction(cy constructionYAML, item string, m *Medium, mediu
 		ok = false
 	}
 	k := &Construction{ID: cy.ID, Name: cy.Name, Listing: cy.Listing, OutdoorRated: cy.OutdoorRated,
-		PlenumRated: cy.PlenumRated, JacketColour: m.JacketColour,
+		PlenumRated: cy.PlenumRated, DirectBurialRated: cy.DirectBurialRated, JacketColour: m.JacketColour,
 		BendRadiusUnloadedOD: cy.BendRadiusUnloadedOD, BendRadiusLoadedOD: cy.BendRadiusLoadedOD, MaxPullN: cy.MaxPullN}
 	if cy.Pos.Has("jacket_colour") {
 		k.JacketColour = cy.JacketColour

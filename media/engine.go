@@ -403,6 +403,7 @@ func (e *Engine) evaluate(c *candidate, l Link, at lengths, mi, ai, ki int, insi
 	f[fConstructionOutdoorRated].b = k.OutdoorRated
 	f[fConstructionListed].b = k.Listing != ""
 	f[fConstructionPlenumRated].b = k.PlenumRated
+	f[fConstructionBurialRated].b = k.DirectBurialRated
 	f[fReachM].num = c.r.RangeM
 	if w, ok := worstLoss(c.losses); ok {
 		c.marginDB = w.MarginDB

@@ -649,6 +649,57 @@ func TestChoosePlenum(t *testing.T) {
 	}
 }
 
+// TestChooseDirectBurial: a route that lays cable on a direct-buried pathway takes only a
+// construction the catalog rates for direct burial (rule direct-burial: ICEA S-87-640 and
+// Telcordia GR-20 outside-plant cable for direct-buried placement, from memory). The same
+// link in duct may take the indoor/outdoor cable, which the catalog does not rate for burial;
+// buried, it is rejected by that rule, naming it, and an outside-plant cable is laid. With no
+// construction rated for burial the link is infeasible and says why.
+func TestChooseDirectBurial(t *testing.T) {
+	t.Parallel()
+	e := newEngine(t, nil, nil, EngineOptions{})
+	for _, short := range []bool{false, true} {
+		// A short link keeps the outside-plant cable within NFPA 70 Article 770's 15 m inside
+		// each entrance (seen as fragment); a long riser makes it a transition or indoor/outdoor.
+		riser := 40.0
+		if short {
+			riser = 10
+		}
+		duct := Link{ID: "L", RouteM: 600, RiserM: riser, RateGbps: 10, Outdoor: true, ConnectorPairs: 2, Strands: 12, PathwayTypes: []string{"duct"}}
+		buried := duct
+		buried.PathwayTypes = []string{"buried", "duct"}
+		inDuct, laid := e.Choose(duct), e.Choose(buried)
+		if !inDuct.Feasible || !laid.Feasible {
+			t.Fatalf("riser %g m: want both feasible: %s / %s", riser, inDuct.Reason, laid.Reason)
+		}
+		k := e.cat.Medium(laid.Medium).Construction(laid.Construction)
+		if !k.DirectBurialRated {
+			t.Errorf("riser %g m, buried: chose %s %s, not rated for direct burial", riser, laid.Medium, k.ID)
+		}
+		if kd := e.cat.Medium(inDuct.Medium).Construction(inDuct.Construction); !short && kd.DirectBurialRated {
+			t.Errorf("riser %g m in duct: chose %s %s; the test wants a link that takes the indoor/outdoor cable in duct", riser, inDuct.Medium, kd.ID)
+		}
+		if !short && laid.Construction == inDuct.Construction {
+			t.Errorf("riser %g m: buried, the same %s as in duct", riser, laid.Construction)
+		}
+	}
+	// No construction rated for burial: infeasible, naming the rule's reason.
+	cat := DefaultCatalog()
+	for _, m := range cat.Media {
+		for _, k := range m.Constructions {
+			k.DirectBurialRated = false
+		}
+	}
+	none := newEngine(t, cat, nil, EngineOptions{})
+	ch := none.Choose(Link{ID: "L", RouteM: 600, RiserM: 10, RateGbps: 10, Outdoor: true, ConnectorPairs: 2, Strands: 12, PathwayTypes: []string{"buried"}})
+	if ch.Feasible {
+		t.Fatalf("no construction rated for burial, yet %s %s was chosen", ch.Medium, ch.Construction)
+	}
+	if !strings.Contains(ch.Reason, "not rated for direct burial") {
+		t.Errorf("infeasible without naming direct burial: %s", ch.Reason)
+	}
+}
+
 // TestChooseTransition: with the book pricing an entrance splice enclosure, a long outdoor
 // link with long risers may run outside-plant cable between the entrances spliced to listed
 // riser cable at each (NFPA 70 Article 770: unlisted cable at most 15 m inside the entrance,

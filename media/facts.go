@@ -39,6 +39,7 @@ const (
 	fConstructionOutdoorRated
 	fConstructionListed
 	fConstructionPlenumRated
+	fConstructionBurialRated
 	fReachM
 	fLossDB
 	fLimitDB
@@ -100,6 +101,7 @@ var facts = [nFacts]Fact{
 	fConstructionOutdoorRated: boolFact("construction_outdoor_rated", "the construction may run outside buildings"),
 	fConstructionListed:       boolFact("construction_listed", "the construction carries an NFPA 70 listing (OFNR, OFNP, CMR, CMP)"),
 	fConstructionPlenumRated:  boolFact("construction_plenum_rated", "the construction is plenum rated"),
+	fConstructionBurialRated:  boolFact("construction_direct_burial_rated", "the construction may be laid in the earth with no duct (catalog direct_burial_rated)"),
 	fReachM:                   numFact("reach_m", "the application's operating range on the medium, in metres"),
 	fLossDB:                   numFact("loss_db", "channel loss at the worst operating wavelength, in dB; 0 for copper"),
 	fLimitDB:                  numFact("limit_db", "the application's maximum channel insertion loss there, in dB; 0 for copper"),

@@ -47,6 +47,9 @@ type Result struct {
 
 	// Estimate is the installation takeoff and priced bill of materials (see Estimate).
 	Estimate *estimate.Estimate
+	// Cautions are the safety cautions the plan calls for (cautionsOf), computed once here
+	// for every output that shows them.
+	Cautions []Caution
 
 	// StartedFrom names where the optimizer's search began (routing.Start.From: an earlier
 	// plan's folder, a sweep's base scenario); "" for a plan solved from scratch.
@@ -181,6 +184,7 @@ func SolveFrom(ctx context.Context, s *site.Site, p *plan.Plan, eng *media.Engin
 		return nil, err
 	}
 	r.Estimate = e
+	r.Cautions = cautionsOf(r)
 	r.Warnings = append(r.Warnings, e.Warnings...)
 	if e.BudgetWarning != "" {
 		r.Warnings = append(r.Warnings, e.BudgetWarning)

@@ -180,7 +180,7 @@ func UnitsOf(opt WriteOptions) Units {
 func (u Units) Rounded(m float64, decimals int) float64 { return roundHalfAway(u.M(m), decimals) }
 
 // bomXLSX renders bom.xlsx: sheets summary, links (the cable schedule), bill of materials,
-// pull sections, duct fill and loss budgets. Extended prices, subtotals, markups, the
+// pull sections, duct fill, loss budgets and safety (the plan's cautions). Extended prices, subtotals, markups, the
 // total and the budget check are formulas, so a changed unit price or quantity moves
 // them. Physical quantities are numbers with their unit in the header.
 func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptions) error {
@@ -231,6 +231,8 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 		workbook.Column{Name: "margin", Unit: "dB"}, workbook.Column{Name: "field test limit", Unit: "dB"},
 		workbook.Column{Name: "operating"})
 	loss.Filter = true
+	safety := wb.AddSheet(SheetSafety, workbook.Column{Name: "caution"}, workbook.Column{Name: "in this plan"},
+		workbook.Column{Name: "what to do"}, workbook.Column{Name: "source"})
 
 	// Bill of materials: lines, then subtotals, markups and the total, all formulas.
 	n := len(b.Lines)
@@ -367,6 +369,7 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 	sum.Append(workbook.Text("over (+) or under (-) budget"), workbook.Formula(fmt.Sprintf("IF(%s>0,ROUND(100*(%s-%s)/%s,1),0)", bud, tot, bud, bud), overPct, 1), workbook.Text("%"))
 	sum.Append(workbook.Text("model cost (legs, no markups)"), workbook.Cents(s.ModelCents), workbook.Text(cur))
 	num("warnings", float64(s.WarningCount), 0, "")
+	num("safety cautions", float64(len(r.Cautions)), 0, "sheet "+SheetSafety)
 
 	// Cable schedule.
 	pullsOf, hiOf := map[int]int{}, map[int]float64{}
@@ -438,8 +441,18 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 			loss.Append(row...)
 		}
 	}
+	// Safety: the plan's cautions (route.Result.Cautions), between the words said before and
+	// after them, as the report lists them.
+	safety.Append(workbook.Text("planning aid"), workbook.Blank(), workbook.Text(route.CautionsPreamble))
+	for _, c := range r.Cautions {
+		safety.Append(workbook.Text(c.Title), workbook.Text(c.Where), workbook.Text(c.Text), workbook.Text(c.Source))
+	}
+	safety.Append(workbook.Text("codes"), workbook.Blank(), workbook.Text(route.CautionsClosing))
 	return wb.WriteToContext(ctx, out)
 }
+
+// SheetSafety is the name of bom.xlsx's sheet of safety cautions.
+const SheetSafety = "safety"
 
 // passage is the links sheet's last cells of a leg, as text: links.csv's last columns (see
 // passageText), then the reason code.

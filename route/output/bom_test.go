@@ -11,6 +11,7 @@ import (
 	"slices"
 	"spanwright/media"
 	"spanwright/media/install"
+	"spanwright/route"
 	"spanwright/route/estimate"
 	"spanwright/route/internal/testplan"
 	"spanwright/route/plan"
@@ -133,9 +134,26 @@ func TestBOMWorkbook(t *testing.T) {
 				t.Fatal(err)
 			}
 			defer x.Close()
-			want := []string{"summary", "links", "bill of materials", "pull sections", "duct fill", "loss budgets"}
+			want := []string{"summary", "links", "bill of materials", "pull sections", "duct fill", "loss budgets", SheetSafety}
 			if got := x.Sheets(); fmt.Sprint(got) != fmt.Sprint(want) {
 				t.Fatalf("sheets: got %v, want %v", got, want)
+			}
+			// The safety sheet is the plan's one list of cautions (route.Result.Cautions), as
+			// the report lists them, between the words said before and after them.
+			rows, err := x.Rows(SheetSafety)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if len(rows) != len(r.Cautions)+3 || len(r.Cautions) == 0 {
+				t.Fatalf("safety sheet: %d rows for %d cautions, want a header, the preamble, the cautions and the closing", len(rows), len(r.Cautions))
+			}
+			if rows[1][2] != route.CautionsPreamble || rows[len(rows)-1][2] != route.CautionsClosing {
+				t.Errorf("safety sheet: preamble %q, closing %q", rows[1][2], rows[len(rows)-1][2])
+			}
+			for i, c := range r.Cautions {
+				if got := rows[i+2]; len(got) < 4 || got[0] != c.Title || got[1] != c.Where || got[2] != c.Text || got[3] != c.Source {
+					t.Errorf("safety sheet row %d: %q, want the caution %+v", i+3, got, c)
+				}
 			}
 			const sh = "bill of materials"
 			num := func(sheet, ref string) float64 {
@@ -333,7 +351,7 @@ print(wb["summary"]["B%d" % (21 + len(cats) - 4)].value)
 		t.Fatalf("openpyxl: %v\n%s", err, out)
 	}
 	b := r.Estimate.BOM
-	want := fmt.Sprintf("['summary', 'links', 'bill of materials', 'pull sections', 'duct fill', 'loss budgets']\n%d %d\n='bill of materials'!F%d\n",
+	want := fmt.Sprintf("['summary', 'links', 'bill of materials', 'pull sections', 'duct fill', 'loss budgets', 'safety']\n%d %d\n='bill of materials'!F%d\n",
 		len(b.Lines), b.TotalCents, len(b.Lines)+1+1+len(b.Subtotal)+5)
 	if string(out) != want {
 		t.Errorf("openpyxl read:\n%s\nwant:\n%s", out, want)

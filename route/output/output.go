@@ -703,6 +703,9 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 	}
 	e := r.Estimate
 	if e == nil || e.BOM == nil {
+		if line := cautionLine(r, false); line != "" {
+			fmt.Fprintln(w, line)
+		}
 		if s.WarningCount > 0 {
 			fmt.Fprintf(w, "%s (see summary.json)\n", Counted(s.WarningCount, "warning", "warnings"))
 		}
@@ -758,6 +761,9 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 		}
 		fmt.Fprintf(w, "budget %s %s: %s by %s (%.1f %%)\n", media.FormatCents(*s.BudgetCents), t(b.Currency), word, media.FormatCents(over), math.Abs(*s.OverBudgetPct))
 	}
+	if line := cautionLine(r, true); line != "" {
+		fmt.Fprintln(w, line)
+	}
 	if s.WarningCount > 0 {
 		fmt.Fprintf(w, "%s (see summary.json)\n", Counted(s.WarningCount, "warning", "warnings"))
 	}
@@ -765,6 +771,21 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 		fmt.Fprintf(w, "warning: %s\n", s.DemoPrices)
 	}
 	return nil
+}
+
+// cautionLine is the terminal's one line on the plan's safety cautions (route.Result.Cautions):
+// their titles and where each is written out; "" when the plan calls for none. bom tells
+// whether bom.xlsx, with its safety sheet, is written.
+func cautionLine(r *route.Result, bom bool) string {
+	if len(r.Cautions) == 0 {
+		return ""
+	}
+	where := "report.html (Safety)"
+	if bom {
+		where += " and bom.xlsx (sheet " + SheetSafety + ")"
+	}
+	return fmt.Sprintf("safety: %s for this plan's work: %s; %s say what to do (local codes and the authority having jurisdiction prevail)", Counted(len(r.Cautions), "caution", "cautions"),
+		strings.ToLower(strings.Join(route.CautionTitles(r.Cautions), ", ")), where)
 }
 
 // shownFillSpans is the most spans the terminal's duct fill line names.

@@ -6,6 +6,7 @@ import (
 	"encoding/csv"
 	"math"
 	"slices"
+	"spanwright/route"
 	"spanwright/route/internal/testplan"
 	"spanwright/route/internal/testsite"
 	"spanwright/route/plan"
@@ -186,5 +187,44 @@ func TestInfeasibleInUnits(t *testing.T) {
 	}
 	if got := legsInUnits(WriteOptions{}, in); len(got) != 1 || got[0] != in[0] {
 		t.Errorf("metric: got %q, want the legs unchanged", got)
+	}
+}
+
+// TestSafetyLine: the terminal names the plan's cautions (route.Result.Cautions) once, in one
+// line that says where they are written out and defers to the local codes and the authority
+// having jurisdiction; a plan whose work calls for none prints no such line.
+func TestSafetyLine(t *testing.T) {
+	t.Parallel()
+	r := *testplan.DemoResult(t)
+	lines := func(r *route.Result) []string {
+		var out bytes.Buffer
+		if err := PrintSummary(&out, r, WriteOptions{}); err != nil {
+			t.Fatal(err)
+		}
+		var got []string
+		for _, l := range strings.Split(out.String(), "\n") {
+			if strings.Contains(l, "caution") {
+				got = append(got, l)
+			}
+		}
+		return got
+	}
+	got := lines(&r)
+	if len(got) != 1 || !strings.HasPrefix(got[0], "safety: ") {
+		t.Fatalf("want one safety line, got %q", got)
+	}
+	for _, c := range r.Cautions {
+		if !strings.Contains(got[0], strings.ToLower(c.Title)) {
+			t.Errorf("the safety line does not name %q: %s", c.Title, got[0])
+		}
+	}
+	for _, want := range []string{Counted(len(r.Cautions), "caution", "cautions"), "sheet " + SheetSafety, "authority having jurisdiction"} {
+		if !strings.Contains(got[0], want) {
+			t.Errorf("the safety line lacks %q: %s", want, got[0])
+		}
+	}
+	r.Cautions = nil
+	if got := lines(&r); len(got) != 0 {
+		t.Errorf("a plan with no caution prints %q", got)
 	}
 }

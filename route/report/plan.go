@@ -3,10 +3,12 @@ package report
 import (
 	"bufio"
 	"bytes"
+	"cmp"
 	"context"
 	"fmt"
 	"html/template"
 	"io"
+	"maps"
 	"math"
 	"slices"
 	"sort"
@@ -73,13 +75,17 @@ type marginBar struct {
 }
 
 type legRow struct {
-	Link, Leg         string
-	From, To          string
-	FromName, ToName  string
-	Rate              string
-	Feasible          bool
-	Medium            mediumInfo
-	HasMedium         bool
+	Link, Leg        string
+	From, To         string
+	FromName, ToName string
+	Rate             string
+	Feasible         bool
+	Medium           mediumInfo
+	HasMedium        bool
+	// Jacket is the jacket colour of the cable the leg installs (its construction's, which
+	// may differ from the medium's TIA-598 colour: outside-plant cable is black), and of the
+	// listed cable spliced on at the entrances when it differs; "" without a medium.
+	Jacket            string
 	Application       string
 	Construction      string
 	Strands           string
@@ -227,6 +233,12 @@ type planView struct {
 	Assumed        []string
 	AssumedSurface string
 	Buildings      []buildingRow
+	// Cautions are the plan's safety cautions (route.Result.Cautions), with the words said
+	// before and after them.
+	Cautions []route.Caution
+	// PHYs names the IEEE 802.3 applications the feasible legs use, sorted, for the sources.
+	PHYs                              string
+	CautionsPreamble, CautionsClosing string
 	// How much of each detail table is listed (DetailRows).
 	LegsListed, PullsListed, DuctsListed, FillListed listed
 }
@@ -355,7 +367,15 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 		cat = r.Engine.Catalog()
 	}
 	s := output.Summarize(r)
-	v := &planView{S: s, Unit: opt.units().Length, Currency: r.Currency, Hub: r.Hub}
+	v := &planView{S: s, Unit: opt.units().Length, Currency: r.Currency, Hub: r.Hub,
+		Cautions: r.Cautions, CautionsPreamble: route.CautionsPreamble, CautionsClosing: route.CautionsClosing}
+	phys := map[string]bool{}
+	for _, l := range r.Legs {
+		if l.Feasible && l.Application != "" {
+			phys[l.Application] = true
+		}
+	}
+	v.PHYs = strings.Join(slices.Sorted(maps.Keys(phys)), ", ")
 	v.Title = "Backbone plan: " + s.Scenario
 	if s.Scenario == "" {
 		v.Title = "Backbone plan"
@@ -685,6 +705,27 @@ func legRows(r *route.Result, opt Options, med map[string]mediumInfo, names map[
 	return rows, len(bad), list
 }
 
+// jacketOf is the jacket of the cable leg l installs, as the links table names it: "jacket
+// black" (its construction's colour, colourOf), and ", yellow at entrances" for a listed
+// cable spliced on at both entrances in another colour; "" when the catalog has no such
+// medium or construction.
+func jacketOf(cat *media.Catalog, l *routing.Leg) string {
+	m := cat.Medium(l.Medium)
+	if m == nil {
+		return ""
+	}
+	k := m.Construction(l.Construction)
+	if k == nil || k.JacketColour == "" { // copper: no TIA-598 colour (the medium's label says so)
+		return ""
+	}
+	_, out := colourOf(k.JacketColour)
+	if in := m.Construction(l.Inside); in != nil && in.JacketColour != "" && in.JacketColour != k.JacketColour {
+		_, inside := colourOf(in.JacketColour)
+		out += ", " + inside + " at entrances"
+	}
+	return "jacket " + out
+}
+
 // legRowOf is the links table's row of the leg l.
 func legRowOf(r *route.Result, l *routing.Leg, opt Options, med map[string]mediumInfo, names map[string]string, nms []int) legRow {
 	pathways, crosses, turns := output.LegLists(r.Site.Net, l) // from→to, as every output lists them
@@ -708,6 +749,7 @@ func legRowOf(r *route.Result, l *routing.Leg, opt Options, med map[string]mediu
 	}
 	if l.Medium != "" {
 		row.Medium, row.HasMedium = med[l.Medium], true
+		row.Jacket = jacketOf(r.Engine.Catalog(), l)
 	}
 	for _, nm := range nms {
 		c := lossCell{}
@@ -1136,7 +1178,7 @@ func (l legRow) HTML(span int) template.HTML {
 	p.w("\n<td>")
 	if l.HasMedium {
 		p.w(`<svg class="sw" width="22" height="12" aria-hidden="true"><rect x="0.5" y="0.5" width="21" height="11" fill="`,
-			t(l.Medium.Hex), `" class="sw-box"/></svg> `, t(l.Medium.ID), `<br><span class="small">`, t(l.Medium.ColourLabel), "</span>")
+			t(l.Medium.Hex), `" class="sw-box"/></svg> `, t(l.Medium.ID), `<br><span class="small">`, t(cmp.Or(l.Jacket, l.Medium.ColourLabel)), "</span>")
 	} else {
 		p.w(`<span class="badge bad">infeasible</span>`)
 	}

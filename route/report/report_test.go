@@ -5,6 +5,7 @@ import (
 	"context"
 	"encoding/json"
 	"fmt"
+	"html/template"
 	"math"
 	"regexp"
 	"strings"
@@ -181,9 +182,15 @@ func TestPlanContent(t *testing.T) {
 		// The gap to the bound as the terminal prints it (output.GapText, in percent).
 		", gap " + output.GapText(s.GapPct) + " <span",
 		"13,357.8 m", // total route of the demo, as summary.json has it
-		// The safety cautions of the README.
-		"one-call service", "invisible", "NFPA 70 Articles 800/805", "ground potential rise", "confined spaces",
-		"authority having jurisdiction",
+		// The safety cautions the demo's work calls for (route.Result.Cautions): locates, trench
+		// (29 CFR 1926 Subpart P), bore, the pole line, the tunnel, maintenance holes, lasers.
+		"one-call service", "invisible", "confined spaces", "<b>Trench cave-in.</b>", "29 CFR 1926 Subpart P",
+		"<b>Directional bore.</b>", "<b>Pole lines.</b>", "29 CFR 1910.268(n)", "<b>Utility tunnels.</b>",
+		"In this plan: 3 legs on aerial pathways ", "authority having jurisdiction",
+		// The cable's own jacket beside the medium: the demo's outside-plant legs are black
+		// (TIA-598: outside-plant jackets usually black, as the catalog says, seen), and its
+		// sources name the PHYs it uses (IEEE 802.3).
+		"jacket black", "jacket yellow", "100GBASE-DR",
 		// TIA-598 premises jacket colour of single-mode (REFERENCES.md, seen), named beside the swatch.
 		"os2, OS2 single-mode: yellow", "NFPA 70 Chapter 9 Table 1", "IEEE 802.3",
 		// Legend entries the demo needs: tunnel, pole line, proposed trench, high EMI, structures.
@@ -487,5 +494,40 @@ func TestDiametersInUnits(t *testing.T) {
 	}
 	if got := imperial.diameter(101.6); got != "4.00" {
 		t.Errorf("a 4 in duct in inches: %q, want 4.00", got)
+	}
+}
+
+// TestPlanCautionsFromResult: the report's Safety section is the result's one list of
+// cautions (route.Result.Cautions), in its order, each with what in the plan calls for it and
+// its source; with none it says so rather than leaving an empty list, and still defers to the
+// local codes and the authority having jurisdiction.
+func TestPlanCautionsFromResult(t *testing.T) {
+	r := *result(t, demoPlan)
+	b, err := Plan(context.Background(), &r, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	html := string(b)
+	at := 0
+	for _, c := range r.Cautions {
+		i := strings.Index(html[at:], "<b>"+template.HTMLEscapeString(c.Title)+".</b>")
+		if i < 0 {
+			t.Fatalf("caution %q missing, or out of the result's order", c.Title)
+		}
+		at += i
+		if !strings.Contains(html[at:], "In this plan: "+template.HTMLEscapeString(c.Where)+". Source: "+template.HTMLEscapeString(c.Source)) {
+			t.Errorf("caution %q: its where and source are not beside it", c.Title)
+		}
+	}
+	r.Cautions = nil
+	b, err = Plan(context.Background(), &r, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	html = string(b)
+	for _, want := range []string{"calls for none of the cautions", "authority having jurisdiction"} {
+		if !strings.Contains(html, want) {
+			t.Errorf("a plan with no cautions: the report lacks %q", want)
+		}
 	}
 }

@@ -83,8 +83,9 @@ func classOf(sp *geo.Span) spanClass {
 	return spanClass{emi: emi, outdoor: sp.Type != geo.TypeTray, plenum: sp.Plenum, typ: sp.Type}
 }
 
-// lateralClass is a counted lateral: a buried run out of the building with no EMI data.
-var lateralClass = spanClass{emi: geo.EMINone, outdoor: true, typ: geo.TypeBuried}
+// lateralClass is a counted lateral: a run out of the building with no EMI data, built as
+// duct (items.Entrance lays new_ducts ducts in it), so not direct-buried.
+var lateralClass = spanClass{emi: geo.EMINone, outdoor: true, typ: geo.TypeDuct}
 
 func (c spanClass) facts(l media.Link) media.Link {
 	l.MaxEMI, l.Outdoor, l.Plenum, l.PathwayTypes = c.emi, c.outdoor, c.plenum, []string{c.typ}

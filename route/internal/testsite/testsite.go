@@ -263,7 +263,8 @@ func FanCampus(ductMM float64, spare int, proposed bool) string {
 }
 
 // CopperFan is hub A and buildings B and C, 42 and 35 m of pathway from it, both reached over one duct T
-// (one spare duct of 21 mm) that ends at a junction where direct-buried pathways fan out.
+// (one spare duct of 21 mm) that ends at a junction where roomy duct banks fan out (not
+// direct-buried: outdoor copper is not rated for burial, rule direct-burial).
 func CopperFan() string {
 	line := func(pts ...float64) string {
 		var s []string
@@ -285,8 +286,8 @@ func CopperFan() string {
 	f := []string{
 		box("A", "mc", 10, 25), box("B", "", 32, 25), box("C", "", 20, -20),
 		way("T", "duct", `,"spare_ducts":1,"duct_mm":21`, line(10, 15, 10, 5, 20, 5)),
-		way("FB", "buried", "", line(20, 5, 32, 5, 32, 15)),
-		way("FC", "buried", "", line(20, 5, 20, -10)),
+		way("FB", "duct", `,"spare_ducts":4,"duct_mm":100`, line(20, 5, 32, 5, 32, 15)),
+		way("FC", "duct", `,"spare_ducts":4,"duct_mm":100`, line(20, 5, 20, -10)),
 	}
 	return `{"type":"FeatureCollection","features":[` + strings.Join(f, ",") + `]}`
 }

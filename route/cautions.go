@@ -1,0 +1,283 @@
+package route
+
+import (
+	"fmt"
+	"slices"
+	"strings"
+
+	"spanwright/geo"
+	"spanwright/route/items"
+)
+
+// Caution is one safety caution a planned scenario calls for: what the crew must do, what in
+// this plan calls for it, and the source. Cautions are computed once from the plan
+// (cautionsOf, into Result.Cautions) and every output for people shows that one list: the
+// report's safety section, the safety sheet of bom.xlsx and one line of the terminal.
+type Caution struct {
+	ID     string // short, stable: CautionLocates, CautionTrench, …
+	Title  string // "Trench cave-in"
+	Where  string // what in this plan calls for it, by id: "new trench along spans P-5, P-6"
+	Text   string // what to do
+	Source string // where it comes from, rated as the catalog rates its values
+}
+
+// The cautions' IDs, in the order they are listed.
+const (
+	CautionLocates  = "locates"
+	CautionTrench   = "trench"
+	CautionBore     = "bore"
+	CautionBuried   = "buried"
+	CautionAerial   = "aerial"
+	CautionTunnel   = "tunnel"
+	CautionConfined = "confined-space"
+	CautionLaser    = "laser"
+	CautionCopper   = "copper-outdoor"
+)
+
+// CautionsPreamble and CautionsClosing are said before and after the cautions, whatever the
+// plan, wherever they are shown.
+const (
+	CautionsPreamble = "Spanwright is a planning aid. Its output is not a construction document and does not replace the judgement of licensed professionals, the local codes in force or the authority having jurisdiction, which always prevail. The cautions below are those this plan's work calls for; the work may call for others."
+	CautionsClosing  = "Codes are law where adopted; TIA documents are design standards; IEEE sets application limits. Defer to local codes, the authority having jurisdiction and licensed practice."
+)
+
+// shownIDs is the most ids a caution's Where names before counting the rest.
+const shownIDs = 6
+
+// idList names ids in sorted order, at most shownIDs of them and a count of the rest.
+func idList(ids []string) string {
+	ids = slices.Sorted(slices.Values(ids))
+	if len(ids) <= shownIDs {
+		return strings.Join(ids, ", ")
+	}
+	return strings.Join(ids[:shownIDs], ", ") + fmt.Sprintf(" and %d more", len(ids)-shownIDs)
+}
+
+// pathways is "pathway A" or "pathways A, B" (idList).
+func pathways(ids []string) string {
+	if len(ids) == 1 {
+		return "pathway " + ids[0]
+	}
+	return "pathways " + idList(ids)
+}
+
+// plural is one or many by n.
+func plural(n int, one, many string) string {
+	if n == 1 {
+		return "1 " + one
+	}
+	return fmt.Sprintf("%d %s", n, many)
+}
+
+// seenList keeps ids in the order first seen, each once.
+type seenList struct {
+	ids  []string
+	seen map[string]bool
+}
+
+func (s *seenList) add(id string) {
+	if s.seen == nil {
+		s.seen = map[string]bool{}
+	}
+	if !s.seen[id] {
+		s.seen[id] = true
+		s.ids = append(s.ids, id)
+	}
+}
+
+// cautionsOf is the one decision of which cautions a plan calls for, from its feasible legs
+// and its estimate: each is listed when the plan has what it is about (new trench, a bore, a
+// pole line, …), in a fixed order, naming what calls for it. The same result gives the same
+// list.
+func cautionsOf(r *Result) []Caution {
+	net := r.Site.Net
+	var aerial, tunnel, buried, holes seenList
+	aerialLegs, tunnelLegs, buriedLegs := 0, 0, 0
+	fibre, copperOut := 0, 0
+	for i := range r.Legs {
+		l := &r.Legs[i]
+		if !l.Feasible {
+			continue
+		}
+		onAerial, onTunnel, onBuried, outdoor := false, false, false, l.LateralM > 0
+		for _, st := range l.Steps {
+			sp, ok := net.Span(st.SpanID)
+			if !ok {
+				continue
+			}
+			switch sp.Type {
+			case geo.TypeAerial:
+				aerial.add(sp.PathwayID)
+				onAerial = true
+			case geo.TypeTunnel:
+				tunnel.add(sp.PathwayID)
+				onTunnel = true
+			case geo.TypeBuried:
+				if sp.Status != geo.StatusProposed {
+					buried.add(sp.PathwayID)
+					onBuried = true
+				}
+			}
+			if sp.Type != geo.TypeTray {
+				outdoor = true
+			}
+		}
+		for _, j := range r.Site.JunctionsOf(l.Steps) {
+			if jn, ok := net.Junction(j); ok && jn.Kind == geo.JunctionStructure && jn.StructureType == geo.StructureMaintenanceHole {
+				holes.add(j)
+			}
+		}
+		aerialLegs += b2i(onAerial)
+		tunnelLegs += b2i(onTunnel)
+		buriedLegs += b2i(onBuried)
+		if m := r.Engine.Catalog().Medium(l.Medium); m != nil {
+			if m.Fibre() {
+				fibre++
+			} else if outdoor {
+				copperOut++
+			}
+		}
+	}
+
+	// New civil work, by method, as the bill and plan.gpkg's new_construction count it:
+	// opened spans, trenches or bores for ducts added beside full ones, counted laterals.
+	var trench, bore seenList
+	laterals := [2]int{} // trenched, bored
+	handholes := 0
+	if e := r.Estimate; e != nil {
+		book, d := r.Engine.PriceBook(), r.Design()
+		work := func(id string) {
+			sp, ok := net.Span(id)
+			if !ok {
+				return
+			}
+			if items.MethodOf(book, d, &sp) == geo.MethodBore {
+				bore.add(id)
+			} else {
+				trench.add(id)
+			}
+		}
+		for _, id := range r.Opened {
+			work(id)
+		}
+		for _, f := range r.Fill {
+			if f.AddedDucts > 0 {
+				work(f.Span)
+			}
+		}
+		for _, en := range e.Construction.Entrances {
+			if en.LateralM > 0 {
+				lat := &geo.Span{Type: geo.TypeDuct, LengthM: en.LateralM}
+				laterals[b2i(items.MethodOf(book, d, lat) == geo.MethodBore)]++
+			}
+		}
+		handholes = len(r.Handholes) + len(e.Construction.RunHandholes) + e.AddedPullPoints
+	}
+
+	var out []Caution
+	add := func(c Caution) { out = append(out, c) }
+	var dig []string
+	if len(trench.ids) > 0 || laterals[0] > 0 {
+		dig = append(dig, "new trench"+spansText(trench.ids, laterals[0]))
+	}
+	if len(bore.ids) > 0 || laterals[1] > 0 {
+		dig = append(dig, "directional bore"+spansText(bore.ids, laterals[1]))
+	}
+	if handholes > 0 {
+		dig = append(dig, plural(handholes, "handhole to set", "handholes to set"))
+	}
+	if len(buried.ids) > 0 {
+		dig = append(dig, "cable laid along existing direct-buried "+pathways(buried.ids))
+	}
+	if len(dig) > 0 {
+		add(Caution{ID: CautionLocates, Title: "Buried utilities",
+			Where: strings.Join(dig, "; "),
+			Text:  "Before any excavation, trenching, boring or setting of a handhole, request utility locates through the local one-call service and hand-dig (or vacuum-excavate) within the tolerance zone of every marked line. New construction in this plan is a cost alternative, not a cleared alignment.",
+			// common practice, no published source: one-call notification is law in most US
+			// states, each with its own tolerance zone.
+			Source: "state one-call (811) laws, each with its own tolerance zone (from memory); common practice"})
+	}
+	if len(trench.ids) > 0 || laterals[0] > 0 {
+		add(Caution{ID: CautionTrench, Title: "Trench cave-in",
+			Where: "new trench" + spansText(trench.ids, laterals[0]),
+			Text:  "A trench 1.5 m (5 ft) deep or more needs a protective system (sloping, benching, shoring or a trench shield) unless it is entirely in stable rock, and a shallower one where a competent person sees signs of a cave-in; the competent person inspects it daily and after rain; keep spoil and equipment at least 0.6 m (2 ft) from the edge; a ladder or ramp within 7.6 m (25 ft) of travel in a trench 1.2 m (4 ft) deep or more.",
+			// 1926.652(a)(1) and 1926.651(j)(2), (k) seen in a secondary republication of the
+			// text; 1926.651(c)(2) (egress) from memory, seen in a contractor's summary.
+			Source: "in the US, 29 CFR 1926 Subpart P: 1926.652(a)(1), 1926.651(j)(2) and (k) (seen in a secondary publication), 1926.651(c)(2) (from memory)"})
+	}
+	if len(bore.ids) > 0 || laterals[1] > 0 {
+		add(Caution{ID: CautionBore, Title: "Directional bore",
+			Where:  "directional bore" + spansText(bore.ids, laterals[1]),
+			Text:   "A bore needs the same locates along its whole path, with every utility it crosses or runs beside exposed (potholed) to confirm its depth, and a bore plan from the contractor: entry and exit pits, depth profile, clearances to the utilities crossed and how the drill head is tracked. Ground the rig and use strike alert where a power line may be hit.",
+			Source: "common practice, no published source (one-call laws require the locates; from memory)"})
+	}
+	if len(buried.ids) > 0 {
+		add(Caution{ID: CautionBuried, Title: "Digging beside direct-buried cable",
+			Where:  plural(buriedLegs, "leg", "legs") + " laid along existing direct-buried " + pathways(buried.ids),
+			Text:   "A new cable along a direct-buried route is laid in ground opened beside the cable already there (trench or plough): locate that cable, expose it by hand where the new work comes near it, and lay only cable rated for direct burial. The bill prices the laying at the price book's buried rate; excavation along an existing direct-buried route is not priced apart.",
+			Source: "common practice, no published source"})
+	}
+	if len(aerial.ids) > 0 {
+		add(Caution{ID: CautionAerial, Title: "Pole lines",
+			Where: plural(aerialLegs, "leg", "legs") + " on aerial " + pathways(aerial.ids),
+			Text:  "Work on poles near overhead power conductors is for qualified workers only, keeping the minimum approach distance for the voltage; test a wood pole before climbing it, use fall protection and insulating gloves when handling strand on poles with energized power conductors, and place the cable in the communication space below the power supply space with the clearances the pole owner and the electrical safety code require. Attaching to a pole takes the owner's permit and any make-ready work.",
+			// 1910.268(n) (overhead lines, pole testing before climbing) seen in a secondary
+			// publication; the NESC clearances and 1926 Subpart V for construction from memory.
+			Source: "in the US, 29 CFR 1910.268(n) (seen in a secondary publication) and, for construction work, 29 CFR 1926 (from memory); NESC (ANSI C2) Part 2 clearances (from memory)"})
+	}
+	if len(tunnel.ids) > 0 {
+		add(Caution{ID: CautionTunnel, Title: "Utility tunnels",
+			Where:  plural(tunnelLegs, "leg", "legs") + " through tunnel " + pathways(tunnel.ids),
+			Text:   "Steam and hot-water lines make tunnels hot (heat stress) and a leaking joint can scald: enter only with the owner's permit and escort, with ventilation, lighting and a way out both ways checked, never alone, and keep cable off steam lines. A tunnel the owner classifies as a permit-required confined space is entered as one.",
+			Source: "in the US, 29 CFR 1910.146 for permit spaces (from memory); common practice, no published source"})
+	}
+	if len(holes.ids) > 0 {
+		add(Caution{ID: CautionConfined, Title: "Confined spaces",
+			Where:  plural(len(holes.ids), "maintenance hole", "maintenance holes") + " passed: " + idList(holes.ids),
+			Text:   "Maintenance holes and vaults are permit-required confined spaces: test the atmosphere, ventilate, and keep an attendant at the opening.",
+			Source: "in the US, 29 CFR 1910.146 and 1910.268(o) (from memory)"})
+	}
+	if fibre > 0 {
+		add(Caution{ID: CautionLaser, Title: "Laser light",
+			Where:  plural(fibre, "fibre leg", "fibre legs"),
+			Text:   "Light at 850, 1310 and 1550 nm is invisible and can injure the eye: never look into a fibre end or connector; use an inspection scope with a filter or a power meter.",
+			Source: "IEC 60825-1, -2 (from memory)"})
+	}
+	if copperOut > 0 {
+		add(Caution{ID: CautionCopper, Title: "Lightning and ground potential rise on copper between buildings",
+			Where:  plural(copperOut, "copper leg", "copper legs") + " leaving a building",
+			Text:   "Copper entering a building from outside needs a listed primary protector at the entrance and bonding; all-dielectric fibre between buildings avoids both.",
+			Source: "NFPA 70 Articles 800 and 805, 800.90 (seen)"})
+	}
+	return out
+}
+
+// spansText is ": span A, B and 3 counted laterals", for a caution's Where.
+func spansText(ids []string, laterals int) string {
+	var parts []string
+	if len(ids) == 1 {
+		parts = append(parts, "span "+ids[0])
+	} else if len(ids) > 1 {
+		parts = append(parts, "spans "+idList(ids))
+	}
+	if laterals > 0 {
+		parts = append(parts, plural(laterals, "counted lateral", "counted laterals"))
+	}
+	return ": " + strings.Join(parts, " and ")
+}
+
+func b2i(b bool) int {
+	if b {
+		return 1
+	}
+	return 0
+}
+
+// CautionTitles are the titles of cs, for a one-line mention (the terminal).
+func CautionTitles(cs []Caution) []string {
+	out := make([]string, len(cs))
+	for i, c := range cs {
+		out[i] = c.Title
+	}
+	return out
+}
