@@ -7,6 +7,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 	"testing/fstest"
@@ -163,8 +164,9 @@ func mustRate(r *route.Result, rate string) float64 {
 
 // modelGap is what the optimizer's model leaves out of, or adds to, the bill's
 // route-dependent items on r, as the README names it: cable bought in whole metres per leg
-// (the bill rounds up, the model does not), and the ducts new construction is built to size
-// with beyond the design's (estimate.Construction.SizedDucts). (Handholes where new pathway joins, and where a
+// (the bill rounds up, the model does not), the ducts new construction is built to size
+// with beyond the design's (estimate.Construction.SizedDucts), and the slack loops (cable,
+// pull, bid items per structure passed) in the handholes where routes turn. (Handholes where new pathway joins, and where a
 // route turns, are charges of their junctions, paid once in the model as in the bill: nothing
 // is the model's alone any more.) It fails the test on
 // what the model is not meant to meet here (a leg the rules moved to another medium or
@@ -200,6 +202,28 @@ func modelGap(t *testing.T, r *route.Result) (billOnly, modelOnly int64) {
 			t.Fatalf("leg %s %s: %s at %d cents a metre, the model's cable %d", l.Link.ID, l.Name, l.Construction, price, perM)
 		}
 		billOnly += media.MulCents(perM, l.Cable.LengthM-items.Wasted(r.Plan.Design, l.Cable.ChannelM))
+		// The slack loop in a handhole where the route turns (routing.PassedBy counts it, as
+		// it counts the crew's entry): the turn edge does not price it (README), nor the half
+		// of the one where a joining span that is a run of its own turns into the pass.
+		turns := float64(len(l.Turns))
+		for _, st := range l.Steps {
+			sp, _ := r.Site.Net.Span(st.SpanID)
+			for _, j := range []string{sp.From, sp.To} {
+				if runAlone(r, &sp, j) {
+					turns += 0.5
+				}
+			}
+		}
+		if turns > 0 {
+			loopM := turns * r.Plan.Design.SlackLoopStructureM
+			billOnly += media.MulCents(perM, items.Wasted(r.Plan.Design, loopM))
+			for _, q := range append(items.StructureLoops(loopM), items.BidPer(p, media.BidBases{Structures: 1})...) {
+				if q.Unit == media.UnitEach { // a bid item per structure passed
+					q.Amount = turns
+				}
+				billOnly += p.Cents(q)
+			}
+		}
 	}
 	// New construction built to size: the ducts an opened span's cables need beyond the
 	// design's (items.NewDucts), which the model, pricing a span before its cables, leaves out.
@@ -372,34 +396,13 @@ func objectiveOf(r *route.Result, prob *optimize.Problem, pb *media.PriceBook, l
 		return c
 	}
 	whole, half := cents(items.AtJunctions(pb, 1, 1)), cents(items.AtJunctions(pb, 0.5, 0.5))
-	splitFor := map[string]bool{}
-	for _, j := range r.Site.TurnsNeedingStructure() {
-		splitFor[j] = true
-	}
-	alone := func(sp *geo.Span, j string) bool { // a joining span, a run of its own at j
-		if sp.Status != geo.StatusProposed || !splitFor[j] || !r.Site.JoinsNetwork(j) {
-			return false
-		}
-		var at []int
-		for i := range r.Site.Net.Spans {
-			if s := &r.Site.Net.Spans[i]; s.From == j || s.To == j {
-				at = append(at, i)
-			}
-		}
-		for _, run := range r.Site.Net.RunsAt(j, at) {
-			if len(run) == 1 && r.Site.Net.Spans[run[0]].ID == sp.ID {
-				return true
-			}
-		}
-		return false
-	}
 	for i := range r.Legs {
 		if l := &r.Legs[i]; l.Feasible {
 			c += int64(len(l.Turns)) * whole
 			for _, st := range l.Steps {
 				sp, _ := r.Site.Net.Span(st.SpanID)
 				for _, j := range []string{sp.From, sp.To} {
-					if alone(&sp, j) {
+					if runAlone(r, &sp, j) {
 						c += half
 					}
 				}
@@ -433,6 +436,27 @@ func objectiveOf(r *route.Result, prob *optimize.Problem, pb *media.PriceBook, l
 		}
 	}
 	return c
+}
+
+// runAlone reports whether sp is a joining span that is a run of its own at junction j, a
+// junction split for turns: a route into or out of it there pays half of the crew's work at
+// j's handhole on the turn edge and half on the span (routing's layout.turnShare).
+func runAlone(r *route.Result, sp *geo.Span, j string) bool {
+	if sp.Status != geo.StatusProposed || !slices.Contains(r.Site.TurnsNeedingStructure(), j) || !r.Site.JoinsNetwork(j) {
+		return false
+	}
+	var at []int
+	for i := range r.Site.Net.Spans {
+		if s := &r.Site.Net.Spans[i]; s.From == j || s.To == j {
+			at = append(at, i)
+		}
+	}
+	for _, run := range r.Site.Net.RunsAt(j, at) {
+		if len(run) == 1 && r.Site.Net.Spans[run[0]].ID == sp.ID {
+			return true
+		}
+	}
+	return false
 }
 
 // TestCostModelMovesWithTheBill changes one price at a time and re-prices the same plan:

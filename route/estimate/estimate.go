@@ -1014,7 +1014,7 @@ func (c *Construction) assumedWarning() string {
 // transitions, terminations, tests, patch cords, transceivers, reel joins, and the
 // route-dependent items of its spans, ends and structure loops (package items), each for all its
 // cables. The bill adds them up; the leg's cost (LegCost) is them priced one by one.
-func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg, runHH map[string][]float64) []media.Quantity {
+func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg) []media.Quantity {
 	p := eng.PriceBook()
 	qs := make([]media.Quantity, 0, 24)
 	add := func(category, item, unit string, amount float64, price media.PriceKey) {
@@ -1082,25 +1082,16 @@ func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg, ru
 	times(n, items.LegEnds(l.RiserM, t.EndSlackM+t.EntranceLoopM, l.LateralM)...)
 	times(n, items.StructureLoops(t.StructureLoopM)...)
 	// The crew, per cable: a pull set-up per section between the pull points the route
-	// passes or ends at (structures, handholes along new construction, where it turns and
-	// where its new pathway joins the network), an entry at each maintenance hole or handhole
-	// among them, both ends prepared.
-	var pull, entered float64
+	// passes or ends at (the campus's structures, and the handholes the plan builds on its
+	// way: routing.PassedBy), an entry at each maintenance hole or handhole among them (the
+	// structures passed, the count its slack loops have), both ends prepared.
+	var pull float64
 	for _, j := range s.JunctionsOf(l.Steps) {
 		if items.PullPoint(s, j) {
 			pull++
 		}
-		if items.Entered(s, j) {
-			entered++
-		}
 	}
-	// A handhole where a lateral at either end taps a duct is a pull point too (items.TapCrew).
-	added := float64(len(l.Turns) + len(s.LegTaps(l.Link.To, l.EntranceTo, l.Link.From, l.EntranceFrom)))
-	for _, st := range l.Steps {
-		sp, _ := s.Net.Span(st.SpanID)
-		added += float64(len(runHH[st.SpanID])) + items.JoinEnds(s, &sp)
-	}
-	times(n, items.AtJunctions(p, 1+pull+added, entered+added)...)
+	times(n, items.AtJunctions(p, 1+pull+float64(t.AddedStructures), float64(t.Structures))...)
 	times(n, items.Crew(p, media.CrewCableEndPrep, 2)...)
 	return qs
 }
@@ -1120,7 +1111,7 @@ func (r *run) quantities() {
 	}
 	for i := range r.Legs {
 		if l := &r.Legs[i]; l.Feasible {
-			items := legItems(r.Site, r.Engine, design, l, r.runHH)
+			items := legItems(r.Site, r.Engine, design, l)
 			// The leg's cost: its items priced one by one, and its share of new construction.
 			c := legCost(p, items)
 			c.ConstructionCents += l.Cost.ConstructionCents

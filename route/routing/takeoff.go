@@ -2,7 +2,9 @@ package routing
 
 import (
 	"math"
+
 	"spanwright/media"
+	"spanwright/route/items"
 	"spanwright/route/plan"
 	"spanwright/route/site"
 )
@@ -10,10 +12,14 @@ import (
 // CableTakeoff is what one leg needs of its cable. Lengths are metres of one cable; a leg
 // with more strands than the largest size has Cables of them side by side.
 type CableTakeoff struct {
-	EndSlackM      float64 // service coils at both ends: 2 × design.slack_m
-	EntranceLoopM  float64 // slack loops at both building entrances
-	Structures     int     // maintenance holes and handholes the route passes
-	StructureLoopM float64 // slack loops at those structures
+	EndSlackM     float64 // service coils at both ends: 2 × design.slack_m
+	EntranceLoopM float64 // slack loops at both building entrances
+	// Structures is the maintenance holes and handholes the cable passes (PassedBy): those
+	// of the campus and, of them, AddedStructures the handholes the plan builds. Each gets a
+	// slack loop, a crew entry and the bid items per structure passed, per cable.
+	Structures      int
+	AddedStructures int
+	StructureLoopM  float64 // slack loops at those structures
 	// ChannelM is route (laterals included) + risers + every slack loop: the length the loss
 	// budget counts.
 	ChannelM float64
@@ -49,15 +55,46 @@ func (t CableTakeoff) SlackM() float64 { return t.EndSlackM + t.EntranceLoopM + 
 // takeoff measures a routed leg's cable before its medium is known: slack loops, channel,
 // waste and reels. The rule engine then decides on the channel and the reel joins (fed back
 // as splices in the loss budget); Fit completes it with the chosen construction.
-func takeoff(s *site.Site, d plan.Design, leg *Leg) CableTakeoff {
+func takeoff(s *site.Site, d plan.Design, leg *Leg, runHH map[string]int) CableTakeoff {
 	t := CableTakeoff{EndSlackM: 2 * d.SlackM, EntranceLoopM: 2 * d.SlackLoopEntranceM}
-	t.Structures = s.StructuresPassed(leg.Steps)
+	t.Structures, t.AddedStructures = PassedBy(s, leg, runHH)
 	t.StructureLoopM = float64(t.Structures) * d.SlackLoopStructureM
 	t.ChannelM = leg.RouteM + leg.RiserM + t.SlackM()
 	t.WasteM = t.ChannelM * d.WastePct / 100
 	t.LengthM, t.Reels = reels(d, t.ChannelM)
 	t.Joins = t.Reels - 1
 	return t
+}
+
+// PassedBy counts the maintenance holes and handholes a leg's cable passes, the one count
+// of them that its slack loops, channel, cable bought, reels, crew entries and bid items
+// per structure passed all use: the campus's own at the junctions of its route, its ends
+// included (site.Site.LoopStructure), and the handholes the plan builds on its way (added):
+// where it turns between pathways (Leg.Turns), where a lateral at either end taps a duct
+// (site.Site.LegTaps), along the runs of new construction on its spans (runHH, by span ID:
+// site.NewRun's handholes) and where its new pathway joins the network (items.JoinEnds,
+// which counts a route from one new span into another at such a junction twice, as the
+// optimizer does). A handhole the pulling plan adds for a pull over its limits
+// (estimate.PullSection.AddedFrom) is not among them: it is placed once the cable is
+// chosen, after this count.
+func PassedBy(s *site.Site, leg *Leg, runHH map[string]int) (all, added int) {
+	for _, j := range s.JunctionsOf(leg.Steps) {
+		if items.Entered(s, j) {
+			all++
+		}
+	}
+	added = len(leg.Turns)
+	if leg.Link != nil {
+		added += len(s.LegTaps(leg.Link.To, leg.EntranceTo, leg.Link.From, leg.EntranceFrom))
+	}
+	joins := 0.0 // whole ends, as a float (items.JoinEnds)
+	for _, st := range leg.Steps {
+		sp, _ := s.Net.Span(st.SpanID)
+		added += runHH[st.SpanID]
+		joins += items.JoinEnds(s, &sp)
+	}
+	added += int(joins)
+	return all + added, added
 }
 
 // reels is the cable bought for a channel of channelM metres (with the design's waste,
