@@ -1092,7 +1092,13 @@ func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg) []
 		}
 	}
 	times(n, items.AtJunctions(p, 1+pull+float64(t.AddedStructures), float64(t.Structures))...)
-	times(n, items.Crew(p, media.CrewCableEndPrep, 2)...)
+	// Every cable end is prepared: both ends of each cable, and those a transition or a
+	// mid-span join adds (CableTakeoff.CableEnds); every transition enclosure and splice
+	// closure is installed. Common practice, no published source: a crew task per cable end
+	// and per enclosure whatever the strand count (ANSI/TIA-758-B gives the splice closures'
+	// placement, not their labour, from memory).
+	qs = append(qs, items.Crew(p, media.CrewCableEndPrep, float64(t.CableEnds()))...)
+	qs = append(qs, items.Crew(p, media.CrewEnclosureInstall, float64(t.Enclosures(l.Inside != "")))...)
 	return qs
 }
 
@@ -1224,8 +1230,8 @@ func (r *run) quantities() {
 // bidBases counts, once, the quantities the price book's bid items may be priced per unit of:
 // new trench and bore metres (Construction.NewM); metres of aerial spans and of existing duct
 // spans (not opened by the plan) that feasible legs use, each span once; structure entries,
-// one per cable per structure its route passes; buildings terminating cable; cable ends, two
-// per cable; feasible legs.
+// one per cable per structure its route passes; buildings terminating cable; cable ends (routing.CableTakeoff.CableEnds:
+// two per cable and those transitions and mid-span joins add); feasible legs.
 func (r *run) bidBases() media.BidBases {
 	e := r.Estimate
 	b := media.BidBases{NewBuriedM: e.Construction.NewM, Buildings: len(e.Buildings)}
@@ -1241,7 +1247,7 @@ func (r *run) bidBases() media.BidBases {
 			continue
 		}
 		b.Legs++
-		b.CableEnds += 2 * l.Cable.Cables
+		b.CableEnds += l.Cable.CableEnds()
 		b.Structures += l.Cable.Structures * l.Cable.Cables
 		for _, st := range l.Steps {
 			if !used[st.SpanID] {

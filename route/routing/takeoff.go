@@ -49,6 +49,27 @@ type CableTakeoff struct {
 // what the inside cable of a transition leaves.
 func (t CableTakeoff) OutsideLengthM() float64 { return t.LengthM - t.InsideLengthM }
 
+// CableEnds is the cable ends the leg's cables have, each prepared and labelled once: both
+// ends of each outside cable, cut again at every mid-span splice (two ends more a join), and
+// with an entrance transition both ends of each inside cable at each end's building (the
+// transition enclosure splices the outside cable's end to one of them). Set once the medium
+// is chosen (Fit).
+func (t CableTakeoff) CableEnds() int {
+	return 2*t.Cables*(1+t.Joins) + 4*t.InsideCables
+}
+
+// Enclosures is the enclosures the leg's cables put in the field, each installed once: a
+// transition enclosure per outside cable at each entrance, and a splice closure per outside
+// cable at each mid-span join. The buildings' fibre enclosures and panels are counted by
+// building (estimate.Connectivity).
+func (t CableTakeoff) Enclosures(transition bool) int {
+	n := t.Cables * t.Joins
+	if transition {
+		n += 2 * t.Cables
+	}
+	return n
+}
+
 // SlackM is every slack loop of the leg, in metres.
 func (t CableTakeoff) SlackM() float64 { return t.EndSlackM + t.EntranceLoopM + t.StructureLoopM }
 
