@@ -202,7 +202,7 @@ func modelGap(t *testing.T, r *route.Result) (billOnly, modelOnly int64) {
 			t.Fatalf("leg %s %s: %s at %d cents a metre, the model's cable %d", l.Link.ID, l.Name, l.Construction, price, perM)
 		}
 		billOnly += media.MulCents(perM, l.Cable.LengthM-items.Wasted(r.Plan.Design, l.Cable.ChannelM))
-		// The slack loop in a handhole where the route turns (routing.PassedBy counts it, as
+		// The slack loop in a handhole where the route turns (routing.CableTakeoff.Structures counts it, as
 		// it counts the crew's entry): the turn edge does not price it (README), nor the half
 		// of the one where a joining span that is a run of its own turns into the pass.
 		turns := float64(len(l.Turns))

@@ -10,7 +10,7 @@ import (
 
 // TestStructuresPassedOneCount plans the demo with 400 m reels (mid-span joins) and holds
 // every figure that counts structures passed, cable ends and field enclosures to one count per
-// leg (routing.PassedBy, CableTakeoff.CableEnds and Enclosures): slack loops and channel, the
+// leg (routing.CableTakeoff.Structures, CableTakeoff.CableEnds and Enclosures): slack loops and channel, the
 // crew entries, cable end preparation, labelling and enclosure installation.
 func TestStructuresPassedOneCount(t *testing.T) {
 	t.Parallel()
@@ -41,6 +41,25 @@ func TestStructuresPassedOneCount(t *testing.T) {
 		// The channel the loss budget counts holds the loops (route + risers + every slack loop).
 		if want := l.RouteM + l.RiserM + c.EndSlackM + c.EntranceLoopM + c.StructureLoopM; c.ChannelM != want {
 			t.Errorf("%s %s: channel %.3f m, want %.3f", l.Link.ID, l.Name, c.ChannelM, want)
+		}
+		// Its reels: cut in whole metres, none over reel_m, summing to the cable bought; a join
+		// between each two, in a structure passed (or marked as having none), along the
+		// channel in travel order.
+		sum, prev := 0.0, 0.0
+		for k, m := range c.ReelsM {
+			sum += m
+			if m > d.ReelM || m != float64(int(m)) {
+				t.Errorf("%s %s: reel %d of %v m, want whole metres up to %v", l.Link.ID, l.Name, k+1, m, d.ReelM)
+			}
+		}
+		if sum != c.LengthM || len(c.ReelsM) != c.Reels || c.Joins != c.Reels-1 || len(c.Splices) != c.Joins {
+			t.Errorf("%s %s: reels %v (%d, %d joins at %v) for %v m bought", l.Link.ID, l.Name, c.ReelsM, c.Reels, c.Joins, c.Splices, c.LengthM)
+		}
+		for _, sp := range c.Splices {
+			if sp.ChannelM <= prev || sp.ChannelM >= c.ChannelM || (!sp.NoStructure && sp.ID == "" && sp.Span == "") {
+				t.Errorf("%s %s: splice %+v out of order or unplaced (channel %.1f m)", l.Link.ID, l.Name, sp, c.ChannelM)
+			}
+			prev = sp.ChannelM
 		}
 		entries += c.Structures * c.Cables
 		ends += c.CableEnds()

@@ -323,6 +323,20 @@ func Build(ctx context.Context, in Input) (*Estimate, error) {
 		}
 	}
 	e.AddedPullPoints = len(added)
+	// A mid-span splice no structure could take (routing.CableTakeoff.Splices) needs a splice
+	// point built: said, not billed.
+	for i := range r.Legs {
+		l := &r.Legs[i]
+		if !l.Feasible {
+			continue
+		}
+		for k, sp := range l.Cable.Splices {
+			if sp.NoStructure {
+				e.Warnings = append(e.Warnings, fmt.Sprintf("%s %s: mid-span splice %d of %d has no maintenance hole or handhole within its reel's reach (%s); build a splice point there (a handhole, or a closure on an aerial span's strand), not billed",
+					l.Link.ID, l.Name, k+1, len(l.Cable.Splices), sp.Text(MetresText)))
+			}
+		}
+	}
 	for _, step := range []func(){r.ductFill, r.connectivity, r.construction, r.quantities} {
 		if err := ctx.Err(); err != nil {
 			return nil, err
@@ -1083,7 +1097,7 @@ func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg) []
 	times(n, items.StructureLoops(t.StructureLoopM)...)
 	// The crew, per cable: a pull set-up per section between the pull points the route
 	// passes or ends at (the campus's structures, and the handholes the plan builds on its
-	// way: routing.PassedBy), an entry at each maintenance hole or handhole among them (the
+	// way: routing.CableTakeoff.Structures), an entry at each maintenance hole or handhole among them (the
 	// structures passed, the count its slack loops have), both ends prepared.
 	var pull float64
 	for _, j := range s.JunctionsOf(l.Steps) {

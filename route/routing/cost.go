@@ -231,9 +231,9 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 		pull, entered := crewHalves(s, sp.From, sp.To)
 		// Handholes along its run, and where it joins the network (half of one where it is a
 		// run of its own at a junction split for turns: the turn edge carries the other half,
-		// layout.turnShare). Each is a structure passed as the campus's are (PassedBy): a slack
+		// layout.turnShare). Each is a structure passed as the campus's are (passesOf): a slack
 		// loop, a crew entry, the bid items per structure.
-		hh := float64(runHH[sp.ID]) + items.JoinEnds(s, sp) - 0.5*float64(lay.joinEnds[i])
+		hh := float64(len(runHH[sp.ID])) + items.JoinEnds(s, sp) - 0.5*float64(lay.joinEnds[i])
 		loops := (items.LoopM(s, d, sp.From)+items.LoopM(s, d, sp.To))/2 + hh*d.SlackLoopStructureM
 		e := optimize.Edge{ID: sp.ID, From: int(u), To: int(v), LengthM: sp.LengthM, CableM: items.Wasted(d, sp.LengthM+loops),
 			PerCableCents: m.cents(items.AlongSpan(d, sp.Type, sp.LengthM)...) + m.cents(items.StructureLoops(loops)...) +
@@ -248,7 +248,7 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 				return nil, nil, nil, err
 			}
 			e.Proposed, e.FixedCents = true, m.cents(open...)+m.bidPer(media.BidBases{NewBuriedM: 1}, sp.LengthM)
-			if n := runHH[sp.ID]; n > 0 {
+			if n := len(runHH[sp.ID]); n > 0 {
 				e.FixedCents += m.cents(items.RunHandholes(n))
 			}
 		} else if sp.Type == geo.TypeDuct {
@@ -277,7 +277,7 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 				e.LengthM, e.CableM = lat, items.Wasted(d, lat)
 				e.PerCableCents = m.cents(items.LegEnds(0, 0, lat)...)
 				e.Flags = lay.classBit[lateralClass]
-				if s.TapOf(x.entry) { // the tap's handhole, a structure passed (PassedBy)
+				if s.TapOf(x.entry) { // the tap's handhole, a structure passed (passesOf)
 					e.CableM += items.Wasted(d, d.SlackLoopStructureM)
 					e.PerCableCents += m.cents(items.TapCrew(m.prices)...) + m.cents(items.StructureLoops(d.SlackLoopStructureM)...) +
 						m.bidPer(media.BidBases{Structures: 1}, 1)
@@ -294,7 +294,7 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 		case edgeTurn:
 			// The handhole added where the route turns: a pull point the crew enters (its
 			// share, when a joining span's run is at one end: layout.turnShare).
-			// It is a structure passed (PassedBy), but its slack loop and the bid items per
+			// It is a structure passed (passesOf), but its slack loop and the bid items per
 			// structure passed are left out here: a pass through a junction split for turns
 			// may take one turn edge or two halves (through a joining span's run), and a loop
 			// priced in halves rounds to a cent apart, which would let cents of rounding pick
@@ -391,7 +391,7 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link) (optimize.Demand,
 	slack := 2 * d.SlackM
 	coils := slack + 2*d.SlackLoopEntranceM
 	// The halves of the slack loops at the end structures, and a whole one in the handhole
-	// where a lateral taps a duct (a structure passed, PassedBy; a pull point more).
+	// where a lateral taps a duct (a structure passed, passesOf; a pull point more).
 	endLoops := (items.LoopM(s, d, src.Junction) + items.LoopM(s, d, dst.Junction)) / 2
 	taps := 0.0
 	for _, e := range []geo.Entry{src, dst} {
@@ -587,12 +587,14 @@ func cableOD(m *media.Medium, strands, copperCables int) float64 {
 	return od
 }
 
-// runHandholes counts the handholes along runs of new construction by span ID.
-func runHandholes(runs []site.NewRun) map[string]int {
-	out := map[string]int{}
+// runHandholes lists the handholes along runs of new construction by span ID, each at metres
+// from the span's from end.
+func runHandholes(runs []site.NewRun) map[string][]float64 {
+	out := map[string][]float64{}
 	for _, r := range runs {
 		for _, h := range r.Handholes {
-			out[r.Steps[h.Step].SpanID]++
+			id := r.Steps[h.Step].SpanID
+			out[id] = append(out[id], h.AtM)
 		}
 	}
 	return out

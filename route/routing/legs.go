@@ -96,7 +96,7 @@ func (c LegCost) TotalCents() int64 {
 }
 
 // legsOf turns the optimizer's route of one link into its legs, with media and costs.
-func legsOf(s *site.Site, cm *Model, lay *layout, prob *optimize.Problem, rt *optimize.Route, l *site.Link, info demandInfo, why string, runHH map[string]int) []Leg {
+func legsOf(s *site.Site, cm *Model, lay *layout, prob *optimize.Problem, rt *optimize.Route, l *site.Link, info demandInfo, why string, runHH map[string][]float64) []Leg {
 	from, to := lay.endEntry[l.To], lay.endEntry[l.From]
 	base := Leg{Link: l, RiserM: info.facts.RiserM, LateralM: from.LateralM + to.LateralM, StrandsCable: info.strands}
 	primary := base
@@ -162,7 +162,7 @@ func isTurn(lay *layout, spans, e int) bool {
 // fillLeg sets a leg's route and its medium from the rule engine on the route's own facts;
 // the estimate prices it (package estimate). runHH holds the handholes along new construction
 // by span ID (runHandholes).
-func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, medium string, info demandInfo, runHH map[string]int) {
+func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, medium string, info demandInfo, runHH map[string][]float64) {
 	if e, ok := lay.endEntry[leg.Link.To]; ok {
 		leg.EntranceTo = e.ID
 	}
