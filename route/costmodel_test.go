@@ -280,7 +280,7 @@ func TestOneCostModel(t *testing.T) {
 			modelItems := 5*crossed + 4*len(r.Legs) + 5*len(r.Opened)
 			bound := 0.5 * float64(modelItems+nItems)
 			got, want := model, items-billOnly+modelOnly
-			t.Logf("seed %d: objective %s, route-independent %s, model's route part %s; bill's route items %s (lines %s), bill-only (whole-metre cable, ducts built to size) %s, model-only %s; %d legs, %d spans opened",
+			t.Logf("seed %d: objective %s, route-independent %s, model's route part %s; bill's route items %s (lines %s), bill-only (whole-metre cable, ducts built to size, loops where routes turn) %s, model-only %s; %d legs, %d spans opened",
 				seed, media.FormatCents(r.ObjectiveCents), media.FormatCents(r.ObjectiveCents-model), media.FormatCents(model),
 				media.FormatCents(items), media.FormatCents(lines), media.FormatCents(billOnly), media.FormatCents(modelOnly), len(r.Legs), len(r.Opened))
 			if math.Abs(float64(got-want)) > bound {
