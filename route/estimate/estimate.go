@@ -324,6 +324,20 @@ func Build(ctx context.Context, in Input) (*Estimate, error) {
 		}
 	}
 	e.AddedPullPoints = len(added)
+	// A mid-span splice no structure could take (routing.CableTakeoff.Splices) needs a splice
+	// point built: said, not billed.
+	for i := range r.Legs {
+		l := &r.Legs[i]
+		if !l.Feasible {
+			continue
+		}
+		for k, sp := range l.Cable.Splices {
+			if sp.NoStructure {
+				e.Warnings = append(e.Warnings, fmt.Sprintf("%s %s: mid-span splice %d of %d has no maintenance hole or handhole within its reel's reach (%s); build a splice point there (a handhole, or a closure on an aerial span's strand), not billed",
+					l.Link.ID, l.Name, k+1, len(l.Cable.Splices), sp.Text(MetresText)))
+			}
+		}
+	}
 	for _, step := range []func(){r.ductFill, r.connectivity, r.construction, r.quantities} {
 		if err := ctx.Err(); err != nil {
 			return nil, err
@@ -1014,7 +1028,7 @@ func (c *Construction) assumedWarning() string {
 // transitions, terminations, tests, patch cords, transceivers, reel joins, and the
 // route-dependent items of its spans, ends and structure loops (package items), each for all its
 // cables. The bill adds them up; the leg's cost (LegCost) is them priced one by one.
-func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg, runHH map[string][]float64) []media.Quantity {
+func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg) []media.Quantity {
 	p := eng.PriceBook()
 	qs := make([]media.Quantity, 0, 24)
 	add := func(category, item, unit string, amount float64, price media.PriceKey) {
@@ -1082,26 +1096,23 @@ func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg, ru
 	times(n, items.LegEnds(l.RiserM, t.EndSlackM+t.EntranceLoopM, l.LateralM)...)
 	times(n, items.StructureLoops(t.StructureLoopM)...)
 	// The crew, per cable: a pull set-up per section between the pull points the route
-	// passes or ends at (structures, handholes along new construction, where it turns and
-	// where its new pathway joins the network), an entry at each maintenance hole or handhole
-	// among them, both ends prepared.
-	var pull, entered float64
+	// passes or ends at (the campus's structures, and the handholes the plan builds on its
+	// way: routing.CableTakeoff.Structures), an entry at each maintenance hole or handhole among them (the
+	// structures passed, the count its slack loops have), both ends prepared.
+	var pull float64
 	for _, j := range s.JunctionsOf(l.Steps) {
 		if items.PullPoint(s, j) {
 			pull++
 		}
-		if items.Entered(s, j) {
-			entered++
-		}
 	}
-	// A handhole where a lateral at either end taps a duct is a pull point too (items.TapCrew).
-	added := float64(len(l.Turns) + len(s.LegTaps(l.Link.To, l.EntranceTo, l.Link.From, l.EntranceFrom)))
-	for _, st := range l.Steps {
-		sp, _ := s.Net.Span(st.SpanID)
-		added += float64(len(runHH[st.SpanID])) + items.JoinEnds(s, &sp)
-	}
-	times(n, items.AtJunctions(p, 1+pull+added, entered+added)...)
-	times(n, items.Crew(p, media.CrewCableEndPrep, 2)...)
+	times(n, items.AtJunctions(p, 1+pull+float64(t.AddedStructures), float64(t.Structures))...)
+	// Every cable end is prepared: both ends of each cable, and those a transition or a
+	// mid-span join adds (CableTakeoff.CableEnds); every transition enclosure and splice
+	// closure is installed. Common practice, no published source: a crew task per cable end
+	// and per enclosure whatever the strand count (ANSI/TIA-758-B gives the splice closures'
+	// placement, not their labour, from memory).
+	qs = append(qs, items.Crew(p, media.CrewCableEndPrep, float64(t.CableEnds()))...)
+	qs = append(qs, items.Crew(p, media.CrewEnclosureInstall, float64(t.Enclosures(l.Inside != "")))...)
 	return qs
 }
 
@@ -1120,7 +1131,7 @@ func (r *run) quantities() {
 	}
 	for i := range r.Legs {
 		if l := &r.Legs[i]; l.Feasible {
-			items := legItems(r.Site, r.Engine, design, l, r.runHH)
+			items := legItems(r.Site, r.Engine, design, l)
 			// The leg's cost: its items priced one by one, and its share of new construction.
 			c := legCost(p, items)
 			c.ConstructionCents += l.Cost.ConstructionCents
@@ -1233,8 +1244,8 @@ func (r *run) quantities() {
 // bidBases counts, once, the quantities the price book's bid items may be priced per unit of:
 // new trench and bore metres (Construction.NewM); metres of aerial spans and of existing duct
 // spans (not opened by the plan) that feasible legs use, each span once; structure entries,
-// one per cable per structure its route passes; buildings terminating cable; cable ends, two
-// per cable; feasible legs.
+// one per cable per structure its route passes; buildings terminating cable; cable ends (routing.CableTakeoff.CableEnds:
+// two per cable and those transitions and mid-span joins add); feasible legs.
 func (r *run) bidBases() media.BidBases {
 	e := r.Estimate
 	b := media.BidBases{NewBuriedM: e.Construction.NewM, Buildings: len(e.Buildings)}
@@ -1250,7 +1261,7 @@ func (r *run) bidBases() media.BidBases {
 			continue
 		}
 		b.Legs++
-		b.CableEnds += 2 * l.Cable.Cables
+		b.CableEnds += l.Cable.CableEnds()
 		b.Structures += l.Cable.Structures * l.Cable.Cables
 		for _, st := range l.Steps {
 			if !used[st.SpanID] {

@@ -196,7 +196,9 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 		workbook.Column{Name: "cable OD", Unit: u.Diameter}, workbook.Column{Name: "route", Unit: u.Length},
 		workbook.Column{Name: "risers", Unit: u.Length}, workbook.Column{Name: "slack loops", Unit: u.Length},
 		workbook.Column{Name: "structures passed"}, workbook.Column{Name: "cable bought", Unit: u.Length},
-		workbook.Column{Name: "reels"}, workbook.Column{Name: "mid-span splices"}, workbook.Column{Name: "pull sections"},
+		workbook.Column{Name: "reels"}, workbook.Column{Name: "mid-span splices"},
+		workbook.Column{Name: "reel lengths", Unit: u.Length}, workbook.Column{Name: "mid-span splices at"},
+		workbook.Column{Name: "pull sections"},
 		workbook.Column{Name: "highest pull", Unit: u.Force}, workbook.Column{Name: "rated pull", Unit: u.Force},
 		workbook.Column{Name: "model cost", Unit: cur}, workbook.Column{Name: "feasible"}, workbook.Column{Name: "note"},
 		workbook.Column{Name: "from entrance"}, workbook.Column{Name: "to entrance"}, workbook.Column{Name: "buildings crossed"},
@@ -385,7 +387,7 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 		cells := []workbook.Cell{workbook.Text(l.Link.ID), workbook.Text(l.Name), workbook.Text(l.Link.From), workbook.Text(l.Link.To),
 			workbook.Text(l.Link.Rate)}
 		if !l.Feasible {
-			cells = append(cells, make([]workbook.Cell, 16)...)
+			cells = append(cells, make([]workbook.Cell, 18)...)
 			cells = append(cells, workbook.Cents(l.Cost.TotalCents()), workbook.Bool(false), workbook.Text(InUnits(opt, l.Reason)))
 			links.Append(append(cells, passage(r, l)...)...)
 			continue
@@ -396,7 +398,8 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 			workbook.Int(int64(l.StrandsCable)), workbook.Int(int64(t.Cables)), workbook.Number(u.MM(t.Size.ODMM), 1),
 			workbook.Number(u.M(l.RouteM), 1), workbook.Number(u.M(l.RiserM), 1), workbook.Number(u.M(t.SlackM()), 1),
 			workbook.Int(int64(t.Structures)), workbook.Number(u.M(t.LengthM), 1), workbook.Int(int64(t.Reels)),
-			workbook.Int(int64(t.Joins)), workbook.Int(int64(pullsOf[i])), workbook.Number(u.N(hi), 1), workbook.Number(u.N(rated), 1),
+			workbook.Int(int64(t.Joins)), workbook.Text(ReelsText(opt, t.ReelsM)), workbook.Text(SplicesText(opt, t.Splices)),
+			workbook.Int(int64(pullsOf[i])), workbook.Number(u.N(hi), 1), workbook.Number(u.N(rated), 1),
 			workbook.Cents(l.Cost.TotalCents()), workbook.Bool(true), workbook.Text(InUnits(opt, l.Reason)))
 		links.Append(append(cells, passage(r, l)...)...)
 	}

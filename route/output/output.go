@@ -869,6 +869,26 @@ func PointText(opt WriteOptions, p estimate.PullPoint) string {
 	return p.Text(func(m float64) string { return LengthText(opt, m) })
 }
 
+// ReelsText writes the lengths cut from a leg's reels (routing.CableTakeoff.ReelsM) for a
+// person, in the run's length unit without it (the column names it), "; " between them.
+func ReelsText(opt WriteOptions, reelsM []float64) string {
+	out := make([]string, len(reelsM))
+	for i, m := range reelsM {
+		out[i] = ftOrM(opt, m, 1)
+	}
+	return strings.Join(out, "; ")
+}
+
+// SplicesText writes where a leg's mid-span splices go (routing.CableTakeoff.Splices) for a
+// person, in travel order from the served building, "; " between them; "" without any.
+func SplicesText(opt WriteOptions, splices []routing.SplicePoint) string {
+	out := make([]string, len(splices))
+	for i, p := range splices {
+		out[i] = p.Text(func(m float64) string { return LengthText(opt, m) })
+	}
+	return strings.Join(out, "; ")
+}
+
 // PullUnits writes the figures of a pull's excesses (install.Excess) for a person: metres,
 // newtons and N/m, or feet, pound-force and lbf/ft when imperial, with one decimal.
 func PullUnits(opt WriteOptions) install.Units {

@@ -96,7 +96,7 @@ func (c LegCost) TotalCents() int64 {
 }
 
 // legsOf turns the optimizer's route of one link into its legs, with media and costs.
-func legsOf(s *site.Site, cm *Model, lay *layout, prob *optimize.Problem, rt *optimize.Route, l *site.Link, info demandInfo, why string) []Leg {
+func legsOf(s *site.Site, cm *Model, lay *layout, prob *optimize.Problem, rt *optimize.Route, l *site.Link, info demandInfo, why string, runHH map[string][]float64) []Leg {
 	from, to := lay.endEntry[l.To], lay.endEntry[l.From]
 	base := Leg{Link: l, RiserM: info.facts.RiserM, LateralM: from.LateralM + to.LateralM, StrandsCable: info.strands}
 	primary := base
@@ -121,7 +121,7 @@ func legsOf(s *site.Site, cm *Model, lay *layout, prob *optimize.Problem, rt *op
 		}
 		return legs
 	}
-	fillLeg(s, cm, lay, &primary, rt.Primary, rt.Medium, info)
+	fillLeg(s, cm, lay, &primary, rt.Primary, rt.Medium, info, runHH)
 	// Each leg carries the construction on its own edges (optimize.Leg.ConstructionCents): the
 	// route's shares of new trench, added duct and handholes, split by the leg that uses them.
 	primary.Cost.ConstructionCents += rt.Primary.ConstructionCents
@@ -130,7 +130,7 @@ func legsOf(s *site.Site, cm *Model, lay *layout, prob *optimize.Problem, rt *op
 		d := base
 		d.Name = LegDiverse
 		if len(rt.Secondary.Hops) > 0 {
-			fillLeg(s, cm, lay, &d, rt.Secondary, rt.Medium, info)
+			fillLeg(s, cm, lay, &d, rt.Secondary, rt.Medium, info, runHH)
 			d.Cost.ConstructionCents += rt.Secondary.ConstructionCents
 			// Both legs leave a building with one entrance by it: diverse outside, not there.
 			for _, b := range []string{l.To, l.From} {
@@ -160,8 +160,9 @@ func isTurn(lay *layout, spans, e int) bool {
 }
 
 // fillLeg sets a leg's route and its medium from the rule engine on the route's own facts;
-// the estimate prices it (package estimate).
-func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, medium string, info demandInfo) {
+// the estimate prices it (package estimate). runHH holds the handholes along new construction
+// by span ID (runHandholes).
+func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, medium string, info demandInfo, runHH map[string][]float64) {
 	if e, ok := lay.endEntry[leg.Link.To]; ok {
 		leg.EntranceTo = e.ID
 	}
@@ -254,7 +255,7 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, me
 	}
 	sort.Strings(facts.PathwayTypes)
 	// The installation's slack loops and reel joins go into the loss budget.
-	leg.Cable = takeoff(s, cm.design, leg)
+	leg.Cable = takeoff(s, cm.design, leg, runHH)
 	facts.SlackM, facts.Splices = leg.Cable.SlackM(), facts.Splices+leg.Cable.Joins
 	ch := cm.eng.Choose(facts)
 	leg.Rejected = ch.Rejected

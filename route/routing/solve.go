@@ -171,11 +171,12 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 			}
 		}
 	}
+	runHH := runHandholes(r.Runs)
 	// Each link's legs are its own (the engine's caches are safe for concurrent use, the
 	// rest is read): worked out side by side, assembled in link order.
 	legs := make([][]Leg, len(links))
 	if err := ctxio.Each(ctx, len(links), func(i int) {
-		legs[i] = legsOf(s, m, lay, prob, &sol.Routes[i], &links[i], infos[i], infeasible[i])
+		legs[i] = legsOf(s, m, lay, prob, &sol.Routes[i], &links[i], infos[i], infeasible[i], runHH)
 	}); err != nil {
 		return nil, err
 	}

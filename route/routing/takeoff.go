@@ -2,7 +2,11 @@ package routing
 
 import (
 	"math"
+	"slices"
+
+	"spanwright/geo"
 	"spanwright/media"
+	"spanwright/route/items"
 	"spanwright/route/plan"
 	"spanwright/route/site"
 )
@@ -10,10 +14,14 @@ import (
 // CableTakeoff is what one leg needs of its cable. Lengths are metres of one cable; a leg
 // with more strands than the largest size has Cables of them side by side.
 type CableTakeoff struct {
-	EndSlackM      float64 // service coils at both ends: 2 × design.slack_m
-	EntranceLoopM  float64 // slack loops at both building entrances
-	Structures     int     // maintenance holes and handholes the route passes
-	StructureLoopM float64 // slack loops at those structures
+	EndSlackM     float64 // service coils at both ends: 2 × design.slack_m
+	EntranceLoopM float64 // slack loops at both building entrances
+	// Structures is the maintenance holes and handholes the cable passes (passesOf): those
+	// of the campus and, of them, AddedStructures the handholes the plan builds. Each gets a
+	// slack loop, a crew entry and the bid items per structure passed, per cable.
+	Structures      int
+	AddedStructures int
+	StructureLoopM  float64 // slack loops at those structures
 	// ChannelM is route (laterals included) + risers + every slack loop: the length the loss
 	// budget counts.
 	ChannelM float64
@@ -21,6 +29,11 @@ type CableTakeoff struct {
 	LengthM  float64 // the length bought: ChannelM + WasteM rounded up to a whole metre
 	Reels    int     // reels of at most design.reel_m that LengthM takes
 	Joins    int     // mid-span splices between reels; each strand's path crosses every one
+	// Splices are where the Joins go, in travel order from the served building (placeJoins);
+	// ReelsM the length cut from each reel, in metres (whole metres, with waste), which sum to
+	// LengthM. One reel without joins.
+	Splices []SplicePoint
+	ReelsM  []float64
 
 	// Filled once the medium is chosen.
 	Size   media.Size // the cable size of the chosen construction
@@ -43,27 +56,266 @@ type CableTakeoff struct {
 // what the inside cable of a transition leaves.
 func (t CableTakeoff) OutsideLengthM() float64 { return t.LengthM - t.InsideLengthM }
 
+// CableEnds is the cable ends the leg's cables have, each prepared and labelled once: both
+// ends of each outside cable, cut again at every mid-span splice (two ends more a join), and
+// with an entrance transition both ends of each inside cable at each end's building (the
+// transition enclosure splices the outside cable's end to one of them). Set once the medium
+// is chosen (Fit).
+func (t CableTakeoff) CableEnds() int {
+	return 2*t.Cables*(1+t.Joins) + 4*t.InsideCables
+}
+
+// Enclosures is the enclosures the leg's cables put in the field, each installed once: a
+// transition enclosure per outside cable at each entrance, and a splice closure per outside
+// cable at each mid-span join. The buildings' fibre enclosures and panels are counted by
+// building (estimate.Connectivity).
+func (t CableTakeoff) Enclosures(transition bool) int {
+	n := t.Cables * t.Joins
+	if transition {
+		n += 2 * t.Cables
+	}
+	return n
+}
+
 // SlackM is every slack loop of the leg, in metres.
 func (t CableTakeoff) SlackM() float64 { return t.EndSlackM + t.EntranceLoopM + t.StructureLoopM }
 
 // takeoff measures a routed leg's cable before its medium is known: slack loops, channel,
 // waste and reels. The rule engine then decides on the channel and the reel joins (fed back
 // as splices in the loss budget); Fit completes it with the chosen construction.
-func takeoff(s *site.Site, d plan.Design, leg *Leg) CableTakeoff {
+func takeoff(s *site.Site, d plan.Design, leg *Leg, runHH map[string][]float64) CableTakeoff {
 	t := CableTakeoff{EndSlackM: 2 * d.SlackM, EntranceLoopM: 2 * d.SlackLoopEntranceM}
-	t.Structures = s.StructuresPassed(leg.Steps)
+	passes, spans := passesOf(s, d, leg, runHH)
+	for _, p := range passes {
+		t.Structures++
+		if p.Added {
+			t.AddedStructures++
+		}
+	}
 	t.StructureLoopM = float64(t.Structures) * d.SlackLoopStructureM
 	t.ChannelM = leg.RouteM + leg.RiserM + t.SlackM()
 	t.WasteM = t.ChannelM * d.WastePct / 100
-	t.LengthM, t.Reels = reels(d, t.ChannelM)
-	t.Joins = t.Reels - 1
+	t.LengthM, _ = reels(d, t.ChannelM)
+	served := ""
+	if leg.Link != nil {
+		served = leg.Link.To
+	}
+	t.Splices, t.ReelsM = placeJoins(d, passes, spans, t.ChannelM, t.LengthM, served)
+	t.Joins, t.Reels = len(t.Splices), len(t.ReelsM)
+	if t.Joins > 0 {
+		t.LengthM = 0
+		for _, m := range t.ReelsM {
+			t.LengthM += m
+		}
+	}
 	return t
 }
 
+// SplicePoint is a place along a leg: a structure by its ID (a junction's, for a handhole the
+// plan adds there: Added), or a handhole the plan adds along new construction on Span, AtM
+// metres from its from end. NoStructure marks a mid-span splice that no structure within
+// reach of its reel could take: it is on Span at AtM, or, off the spans (in a riser, a slack
+// loop or a lateral), ChannelM metres along the cable from building ID; a splice point (a
+// handhole, or a closure on the strand of an aerial span) is to be built there.
+type SplicePoint struct {
+	ID          string
+	Span        string
+	AtM         float64
+	Added       bool
+	NoStructure bool
+	// ChannelM is where it is along the channel, in metres from the served building's end of
+	// the cable (its riser, coil and entrance loop first).
+	ChannelM float64
+}
+
+// Text is the place as a person reads it, with lengths written by length (the output's units).
+func (p SplicePoint) Text(length func(m float64) string) string {
+	switch {
+	case p.NoStructure && p.Span != "":
+		return "no structure: on " + p.Span + " at " + length(p.AtM)
+	case p.NoStructure:
+		return "no structure: " + length(p.ChannelM) + " along the cable from " + p.ID
+	case p.ID == "":
+		return "new handhole on " + p.Span + " at " + length(p.AtM)
+	case p.Added:
+		return p.ID + " (handhole to add)"
+	}
+	return p.ID
+}
+
+// passesOf lists the maintenance holes and handholes a leg's cable passes, in travel order
+// from the served building, each with where it is along the channel: the campus's own at the
+// junctions of its route, its ends included (items.Entered), and the handholes the plan
+// builds on its way (Added): where it turns between pathways (Leg.Turns), where a lateral at
+// either end taps a duct (site.Site.LegTaps), along the runs of new construction on its spans
+// (runHH, by span ID, metres from the span's from end: site.NewRun's handholes) and where its
+// new pathway joins the network (items.JoinEnds, which counts a route from one new span into
+// another at such a junction twice, as the optimizer does). A handhole the pulling plan adds
+// for a pull over its limits (estimate.PullSection.AddedFrom) is not among them: it is
+// placed once the cable is chosen, after this count. Each pass leaves a slack loop of
+// design.slack_loop_structure_m, counted on the channel where it is.
+func passesOf(s *site.Site, d plan.Design, leg *Leg, runHH map[string][]float64) ([]SplicePoint, []spanOnChannel) {
+	var out []SplicePoint
+	var spans []spanOnChannel
+	at := 0.0
+	pass := func(p SplicePoint) {
+		at += d.SlackLoopStructureM
+		p.ChannelM = at
+		out = append(out, p)
+	}
+	lateralOf := func(b, id string) (float64, bool) {
+		for _, e := range s.Net.EntrancesOf(b) {
+			if e.ID == id {
+				return e.LateralM, s.TapOf(e)
+			}
+		}
+		return 0, false
+	}
+	var to, from string
+	if leg.Link != nil {
+		to, from = leg.Link.To, leg.Link.From
+	}
+	latTo, tapTo := lateralOf(to, leg.EntranceTo)
+	_, tapFrom := lateralOf(from, leg.EntranceFrom)
+	at = s.RiserM(to) + d.SlackM + d.SlackLoopEntranceM + latTo
+	juncs := s.JunctionsOf(leg.Steps)
+	turns := slices.Clone(leg.Turns)
+	atJunction := func(k int) {
+		j := juncs[k]
+		if k == 0 && tapTo {
+			pass(SplicePoint{ID: j, Added: true})
+		}
+		if items.Entered(s, j) {
+			pass(SplicePoint{ID: j})
+		}
+		for len(turns) > 0 && turns[0] == j {
+			turns = turns[1:]
+			pass(SplicePoint{ID: j, Added: true})
+		}
+		for _, q := range []int{k - 1, k} { // the spans ending and starting here
+			if q < 0 || q >= len(leg.Steps) {
+				continue
+			}
+			sp, _ := s.Net.Span(leg.Steps[q].SpanID)
+			if sp.Status == geo.StatusProposed && s.JoinsNetwork(j) && (sp.From == j || sp.To == j) {
+				pass(SplicePoint{ID: j, Added: true})
+			}
+		}
+		if k == len(juncs)-1 && tapFrom {
+			pass(SplicePoint{ID: j, Added: true})
+		}
+	}
+	for k, st := range leg.Steps {
+		atJunction(k)
+		sp, _ := s.Net.Span(st.SpanID)
+		var hh []float64 // metres into the span in travel order
+		for _, m := range runHH[st.SpanID] {
+			if st.Reverse {
+				m = sp.LengthM - m
+			}
+			hh = append(hh, m)
+		}
+		slices.Sort(hh)
+		start := at
+		spans = append(spans, spanOnChannel{span: &sp, reverse: st.Reverse, startM: start, loopsAt: hh})
+		for i, m := range hh {
+			at = start + m + float64(i)*d.SlackLoopStructureM
+			off := m
+			if st.Reverse {
+				off = sp.LengthM - m
+			}
+			pass(SplicePoint{Span: sp.ID, AtM: off, Added: true})
+		}
+		at = start + sp.LengthM + float64(len(hh))*d.SlackLoopStructureM
+	}
+	if len(juncs) > 0 {
+		atJunction(len(juncs) - 1)
+	}
+	return out, spans
+}
+
+// spanOnChannel is a span of a leg's route where it lies along the channel: from startM, in
+// travel order, with the slack loops of the handholes along it at loopsAt (metres into it in
+// travel order).
+type spanOnChannel struct {
+	span    *geo.Span
+	reverse bool
+	startM  float64
+	loopsAt []float64
+}
+
+// locate finds channel position atM on the spans: the span and metres from its from end; false
+// off the spans (a riser, coil, lateral or slack loop).
+func locate(spans []spanOnChannel, loopM, atM float64) (string, float64, bool) {
+	for _, sc := range spans {
+		into := atM - sc.startM
+		for _, h := range sc.loopsAt {
+			if into > h+loopM {
+				into -= loopM
+			} else if into > h {
+				return "", 0, false // in that handhole's loop
+			}
+		}
+		if into < 0 || into > sc.span.LengthM {
+			continue
+		}
+		if sc.reverse {
+			into = sc.span.LengthM - into
+		}
+		return sc.span.ID, into, true
+	}
+	return "", 0, false
+}
+
+// placeJoins places the mid-span splices of a channel channelM metres long whose structures
+// passed are passes (passesOf, in travel order) and cuts its reels: a reel of design.reel_m
+// carries reel_m / (1 + waste_pct/100) metres of channel (the waste spread over its length),
+// and each join goes in the last structure passed at or before where its reel runs out (a
+// splice closure is stored in a maintenance hole or handhole with its slack: TIA-758-B, from
+// memory), the next reel starting there; where no structure lies within a reel's reach the
+// join is at its reel's end, NoStructure, by its distance along the cable from the served
+// building. Each reel is cut to its channel with waste in whole metres (ReelsM); without joins
+// the one reel is lengthM. So the joins, which the bill counts and the loss budget takes as
+// splices, are the placed ones: as many as reels(channelM) gives by length, or more where
+// structures are far apart.
+func placeJoins(d plan.Design, passes []SplicePoint, spans []spanOnChannel, channelM, lengthM float64, served string) (splices []SplicePoint, reelsM []float64) {
+	if d.ReelM <= 0 {
+		return nil, []float64{lengthM}
+	}
+	capM := d.ReelM / (1 + d.WastePct/100)
+	start := 0.0
+	for channelM-start > capM+1e-9 {
+		best := -1
+		for i := range passes {
+			if at := passes[i].ChannelM; at > start+1e-9 && at <= start+capM+1e-9 {
+				best = i
+			}
+		}
+		p := SplicePoint{ID: served, NoStructure: true, ChannelM: start + capM}
+		if best >= 0 {
+			p = passes[best]
+		} else if id, m, ok := locate(spans, d.SlackLoopStructureM, p.ChannelM); ok {
+			p.Span, p.AtM = id, m
+		}
+		splices = append(splices, p)
+		start = p.ChannelM
+	}
+	if len(splices) == 0 {
+		return nil, []float64{lengthM}
+	}
+	prev := 0.0
+	for _, p := range append(slices.Clone(splices), SplicePoint{ChannelM: channelM}) {
+		reelsM = append(reelsM, math.Ceil((p.ChannelM-prev)*(1+d.WastePct/100)-1e-9))
+		prev = p.ChannelM
+	}
+	return splices, reelsM
+}
+
 // reels is the cable bought for a channel of channelM metres (with the design's waste,
-// rounded up to a whole metre) and the reels of at most design.reel_m it takes: the one
-// decision of how many mid-span splices (reels − 1) a channel that long gets, for the takeoff
-// and for the reach the optimizer keeps a route within (Model.reachM).
+// rounded up to a whole metre) and the reels of at most design.reel_m it takes by length
+// alone: the mid-span splices (reels − 1) the optimizer's reach counts for a channel that
+// long (Model.reachM). A routed leg's joins are placed at its structures (placeJoins), which
+// can take more where they are far apart; the rule engine then decides on those.
 func reels(d plan.Design, channelM float64) (lengthM float64, n int) {
 	lengthM = math.Ceil(channelM + channelM*d.WastePct/100 - 1e-9)
 	n = 1

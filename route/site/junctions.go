@@ -33,16 +33,6 @@ func (s *Site) LoopStructure(id string) bool {
 		(j.StructureType == geo.StructureMaintenanceHole || j.StructureType == geo.StructureHandhole)
 }
 
-func (s *Site) StructuresPassed(steps []geo.Step) int {
-	n := 0
-	for _, id := range s.JunctionsOf(steps) {
-		if s.LoopStructure(id) {
-			n++
-		}
-	}
-	return n
-}
-
 // IsStructure reports whether junction id is a structure (a maintenance hole, handhole,
 // pull box or vault).
 func (s *Site) IsStructure(id string) bool {

@@ -1,0 +1,43 @@
+package routing
+
+import (
+	"slices"
+	"strconv"
+	"testing"
+
+	"spanwright/geo"
+	"spanwright/route/plan"
+)
+
+// TestPlaceJoins: each join goes in the last structure passed at or before where its reel
+// runs out (a reel of reel_m carries reel_m / (1 + waste) of channel), the next reel starting
+// there; with no structure within reach, at the reel's end on its span; reels are cut in whole
+// metres with waste. The rule is common practice, no published source (splice closures in
+// maintenance holes and handholes: TIA-758-B, from memory).
+func TestPlaceJoins(t *testing.T) {
+	d := plan.Design{ReelM: 105, WastePct: 5, SlackLoopStructureM: 3} // 100 m of channel a reel
+	passes := []SplicePoint{{ID: "MH-1", ChannelM: 30}, {ID: "HH-2", ChannelM: 90}, {ID: "J7", Added: true, ChannelM: 150}, {ID: "MH-3", ChannelM: 260}}
+	sp := &geo.Span{ID: "A-1", LengthM: 200}
+	spans := []spanOnChannel{{span: sp, reverse: true, startM: 100}} // channel 100 → 300 m, drawn the other way
+	splices, reels := placeJoins(d, passes, spans, 300, 315, "B1")
+	var at []string
+	for _, p := range splices {
+		at = append(at, p.Text(func(m float64) string { return strconv.FormatFloat(m, 'f', 1, 64) + " m" }))
+	}
+	// 90 (HH-2, last of 30 and 90 within 100 m); 150 (J7 within 190); none in (150, 250]:
+	// the reel's end at 250 m, 150 m into A-1 in travel order, 50 m from its from end.
+	want := []string{"HH-2", "J7 (handhole to add)", "no structure: on A-1 at 50.0 m"}
+	if !slices.Equal(at, want) {
+		t.Errorf("joins at %q, want %q", at, want)
+	}
+	// 90, 60, 100 and 50 m of channel with 5 % waste, each up to a whole metre.
+	if wantM := []float64{95, 63, 105, 53}; !slices.Equal(reels, wantM) {
+		t.Errorf("reels %v, want %v", reels, wantM)
+	}
+	if s, r := placeJoins(plan.Design{ReelM: 0}, passes, spans, 300, 315, "B1"); s != nil || !slices.Equal(r, []float64{315}) {
+		t.Errorf("no reel limit: %v, %v", s, r)
+	}
+	if s, r := placeJoins(d, passes, spans, 100, 105, "B1"); s != nil || !slices.Equal(r, []float64{105}) {
+		t.Errorf("one reel's channel: %v, %v", s, r)
+	}
+}
