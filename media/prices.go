@@ -4,6 +4,7 @@ import (
 	_ "embed"
 	"fmt"
 	"regexp"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -218,6 +219,27 @@ func (p *PriceBook) Has(item string) bool {
 	return false
 }
 
+// optionalItems are the price items a book may leave out whole (PriceBook.NotPriced).
+var optionalItems = []string{PriceEntrance, PriceFirestop, PricePatchCord}
+
+// NotPriced reports whether k is a price the book leaves out on purpose: its item is one a book
+// may leave out whole (building_entrance_each, entrance_firestop_each, patch_cords_each) and the
+// book prices no key of that item. A plan still needs what such a price buys: Check does not ask
+// for it, and Bill lists its quantity on a line with no price (BOMLine.NotPriced), as a bid lists
+// its exclusions. It is the one place that decides that an optional price is absent.
+func (p *PriceBook) NotPriced(k PriceKey) bool {
+	return slices.Contains(optionalItems, k.Item) && !p.Has(k.Item)
+}
+
+// SectionPath is where the prices of k's item go in a price book file, the key a book leaves
+// out to leave the item unpriced: "patch_cords_each" for every patch cord, else k.Path().
+func (k PriceKey) SectionPath() string {
+	if k.Item == PricePatchCord {
+		return "patch_cords_each"
+	}
+	return k.Path()
+}
+
 // Keys returns every key the book prices, sorted by item, medium, construction, name and count.
 func (p *PriceBook) Keys() []PriceKey {
 	keys := make([]PriceKey, 0, len(p.money)+len(p.rates))
@@ -235,7 +257,8 @@ func sortKeys(keys []PriceKey) {
 	sort.Slice(keys, func(i, j int) bool { return keyLess(keys[i], keys[j]) })
 }
 
-// Check reports every key of needs the book lacks, at once, as an *input.Problems
+// Check reports every key of needs the book lacks (but not those it leaves out on purpose,
+// NotPriced), at once, as an *input.Problems
 // with ErrMissingPrice, each naming the key and the path to add it at; nil when all are there.
 func (p *PriceBook) Check(needs []PriceKey) error {
 	if p.hasAll(needs) { // the usual case, without sorting or allocating
@@ -250,7 +273,7 @@ func (p *PriceBook) Check(needs []PriceKey) error {
 			continue
 		}
 		seen[k] = true
-		if !p.has(k) {
+		if !p.has(k) && !p.NotPriced(k) {
 			errs.Add(&input.Problem{File: p.File, Item: "price " + strconv.Quote(k.String()),
 				Err: input.Errorf(ErrMissingPrice, "missing; add %s", k.Path())})
 		}
@@ -258,10 +281,11 @@ func (p *PriceBook) Check(needs []PriceKey) error {
 	return sorted(&errs)
 }
 
-// hasAll reports whether the book prices every key of needs.
+// hasAll reports whether the book prices every key of needs, or leaves it out on purpose
+// (NotPriced).
 func (p *PriceBook) hasAll(needs []PriceKey) bool {
 	for _, k := range needs {
-		if !p.has(k) {
+		if !p.has(k) && !p.NotPriced(k) {
 			return false
 		}
 	}

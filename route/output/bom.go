@@ -129,7 +129,11 @@ func bomCSV(out io.Writer, r *route.Result, opt WriteOptions) error {
 			shown, _ := strconv.ParseFloat(q, 64)
 			p = perFoot(l.ExtendedCents, shown, price)
 		}
-		w.Write([]string{l.Category, describe(opt, l), unit, q, p, media.FormatCents(l.ExtendedCents), fromText(l)})
+		ext := media.FormatCents(l.ExtendedCents)
+		if l.NotPriced {
+			p, ext = l.NotPricedText(), ""
+		}
+		w.Write([]string{l.Category, describe(opt, l), unit, q, p, ext, fromText(l)})
 	}
 	for _, s := range b.Subtotal {
 		w.Write([]string{rowSubtotal, s.Category, "", "", "", media.FormatCents(s.Cents), ""})
@@ -263,9 +267,14 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 			}
 			unitPrice = workbook.Formula(fmt.Sprintf("ROUND((%s)*%s/100,2)", strings.Join(sums, "+"), pct(l.PercentBP)), price, 2)
 		}
+		extended := workbook.Formula(fmt.Sprintf("ROUND(%s*%s,2)", workbook.Ref(3, row), workbook.Ref(4, row)), money(l.ExtendedCents), 2)
+		if l.NotPriced {
+			// The quantity the plan needs, and in place of a price the words that say why
+			// there is none; no extended price, so the subtotals leave it out.
+			unitPrice, extended = workbook.Text(l.NotPricedText()), workbook.Blank()
+		}
 		bom.Append(workbook.Text(l.Category), workbook.Text(describe(opt, l)), workbook.Text(unit), workbook.Number(qty, dq),
-			unitPrice, workbook.Formula(fmt.Sprintf("ROUND(%s*%s,2)", workbook.Ref(3, row), workbook.Ref(4, row)), money(l.ExtendedCents), 2),
-			workbook.Text(fromCell(l)))
+			unitPrice, extended, workbook.Text(fromCell(l)))
 	}
 	bom.Append()
 	subRow := map[string]int{}

@@ -751,6 +751,9 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 	if note := s.PricedNote(); note != "" {
 		fmt.Fprintf(w, "warning: %s\n", note)
 	}
+	for _, np := range b.NotPriced(r.Engine.PriceBook().File) { // also among the warnings (estimate.Build)
+		fmt.Fprintf(w, "warning: %s\n", t(np))
+	}
 	if s.BudgetCents != nil {
 		word, over := "under", -*s.OverBudgetCents
 		if *s.OverBudgetCents > 0 {
