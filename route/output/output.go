@@ -812,7 +812,7 @@ func fillLine(fill []estimate.DuctFill) string {
 // PricedNote says, when some legs are infeasible, that the plan's costs price only the
 // feasible ones (an infeasible leg has no route, no medium and no bill lines), or, when every
 // leg is, that no leg is priced; "" when every leg is feasible. The terminal and the report
-// print it beside the total.
+// print it beside the total, bom.csv and bom.xlsx after it (PricedNoteOf).
 func (s Summary) PricedNote() string {
 	if s.Infeasible == 0 {
 		return ""
@@ -826,6 +826,17 @@ func (s Summary) PricedNote() string {
 	}
 	return fmt.Sprintf("the total prices the %s of %d only; %s not priced (no route or medium was found)",
 		Counted(s.Legs-s.Infeasible, "feasible leg", "feasible legs"), s.Legs, Counted(s.Infeasible, "infeasible leg is", "infeasible legs are"))
+}
+
+// PricedNoteOf is r's PricedNote, counted from its legs without the rest of the summary.
+func PricedNoteOf(r *route.Result) string {
+	s := Summary{Legs: len(r.Legs)}
+	for i := range r.Legs {
+		if !r.Legs[i].Feasible {
+			s.Infeasible++
+		}
+	}
+	return s.PricedNote()
 }
 
 // DemoPricesWarning is the warning printed on the terminal, written in summary.json and shown
