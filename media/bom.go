@@ -253,24 +253,32 @@ func (l BOMLine) NotPricedText() string {
 // that the bill needs, in bill order, each with its lines' items and quantities: the
 // warnings a bid's exclusions give. file names the price book. Empty when every line is priced.
 func (b *BOM) NotPriced(file string) []string {
-	var keys []string
 	lines := map[string][]string{}
 	for _, l := range b.Lines {
-		if !l.NotPriced {
-			continue
+		if l.NotPriced {
+			k := l.Price.SectionPath()
+			lines[k] = append(lines[k], fmt.Sprintf("%q %s %s", l.Item, strconv.FormatFloat(l.Quantity, 'f', -1, 64), l.Unit))
 		}
-		k := l.Price.SectionPath()
-		if lines[k] == nil {
-			keys = append(keys, k)
-		}
-		lines[k] = append(lines[k], fmt.Sprintf("%q %s %s", l.Item, strconv.FormatFloat(l.Quantity, 'f', -1, 64), l.Unit))
 	}
+	keys := b.NotPricedKeys()
 	out := make([]string, 0, len(keys))
 	for _, k := range keys {
 		out = append(out, fmt.Sprintf("%s: %s: not in the price book, so not priced: the plan needs %s; the bill lists them with no price and the total leaves them out",
 			file, k, strings.Join(lines[k], " and ")))
 	}
 	return out
+}
+
+// NotPricedKeys lists the keys of the prices the book leaves out that the bill needs
+// (PriceKey.SectionPath of its NotPriced lines), each once, in bill order.
+func (b *BOM) NotPricedKeys() []string {
+	var keys []string
+	for _, l := range b.Lines {
+		if k := l.Price.SectionPath(); l.NotPriced && !slices.Contains(keys, k) {
+			keys = append(keys, k)
+		}
+	}
+	return keys
 }
 
 // percentItems adds a line for each bid item priced as a percentage, after the other lines:

@@ -56,6 +56,14 @@ func TestPricesLeftOut(t *testing.T) {
 			t.Errorf("terminal lacks the warning for %s:\n%s", k, out)
 		}
 	}
+	report, err := os.ReadFile(filepath.Join(dir, "out", "report.html"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(string(report), "not priced, left out of the total: patch_cords_each, building_entrance_each") ||
+		!strings.Contains(string(report), book+": patch_cords_each: not in the price book, so not priced") {
+		t.Errorf("report.html does not say, beside the total and among the warnings, what is not priced")
+	}
 	bom, err := os.ReadFile(filepath.Join(dir, "out", "bom.csv"))
 	if err != nil {
 		t.Fatal(err)
