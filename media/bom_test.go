@@ -297,6 +297,22 @@ func TestBillNotPriced(t *testing.T) {
 	if err := book.Check([]PriceKey{{Item: PriceEntrance}, {Item: PricePatchCord, Medium: "os2"}}); err != nil {
 		t.Errorf("Check asks for prices left out on purpose: %v", err)
 	}
+	// Crew tasks: a book without crew_each prices labour by the hour alone (no crew task is
+	// asked of it); one with crew_each leaves out the tasks it does not list.
+	crews, err := ParsePriceBook("crews.yaml", []byte("label: test, invented\ncurrency: EUR\nprices_date: 2026-01-01\ncrew_each: {pull_setup: 100}\n"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	setup, prep := PriceKey{Item: PriceCrew, Name: CrewPullSetup}, PriceKey{Item: PriceCrew, Name: CrewCableEndPrep}
+	if book.NotPriced(prep) || crews.NotPriced(setup) || !crews.NotPriced(prep) {
+		t.Errorf("crew tasks: NotPriced %v without crew_each, %v for a task priced, %v for one left out; want false, false, true",
+			book.NotPriced(prep), crews.NotPriced(setup), crews.NotPriced(prep))
+	}
+	cb, err := crews.Bill([]Quantity{{Category: CategoryLabour, Item: "cable end preparation", Unit: UnitEach, Amount: 8, Price: prep}})
+	if err != nil || len(cb.Lines) != 1 || !cb.Lines[0].NotPriced || cb.Lines[0].Quantity != 8 ||
+		!slices.Equal(cb.NotPriced("crews.yaml"), []string{`crews.yaml: crew_each.cable_end_prep: not in the price book, so not priced: the plan needs "cable end preparation" 8 each; the bill lists them with no price and the total leaves them out`}) {
+		t.Errorf("crew task left out: %v, %+v", err, cb)
+	}
 }
 
 // TestBillFrom: a line's sources are the distinct sources of its quantities, sorted; a

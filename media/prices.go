@@ -39,7 +39,7 @@ const (
 	PriceBidItem       = "bid-item"          // an entry of bid_items priced as a lump sum or per unit of its basis: Name its id (optional section)
 	PriceEntrance      = "entrance"          // building entry, each entrance a plan uses: wall penetration, sleeve or entrance conduit, firestop (optional)
 	PriceFirestop      = "entrance-firestop" // each entrance a plan uses that is there already: firestopping the cables through its sleeve (optional)
-	PriceCrew          = "crew"              // crew labour, each: Name one of CrewTasks (optional, each task on its own)
+	PriceCrew          = "crew"              // crew labour, each: Name one of CrewTasks (optional section; a task it leaves out is NotPriced)
 
 	RatePull        = "pull-rate"        // metres pulled per hour: Name pathway type (duct, tunnel, aerial, buried, tray)
 	RateSplice      = "splice-rate"      // splices per hour
@@ -224,11 +224,19 @@ var optionalItems = []string{PriceEntrance, PriceFirestop, PricePatchCord}
 
 // NotPriced reports whether k is a price the book leaves out on purpose: its item is one a book
 // may leave out whole (building_entrance_each, entrance_firestop_each, patch_cords_each) and the
-// book prices no key of that item. A plan still needs what such a price buys: Check does not ask
-// for it, and Bill lists its quantity on a line with no price (BOMLine.NotPriced), as a bid lists
-// its exclusions. It is the one place that decides that an optional price is absent.
+// book prices no key of that item; or it is a crew task (crew_each) of a book that prices crews
+// but not that task (a book without crew_each prices labour by the hour alone, and the plan
+// asks it for no crew task: items.Crew). A plan still needs what such a price buys: Check does
+// not ask for it, and Bill lists its quantity on a line with no price (BOMLine.NotPriced), as a
+// bid lists its exclusions. It is the one place that decides that an optional price is absent.
 func (p *PriceBook) NotPriced(k PriceKey) bool {
-	return slices.Contains(optionalItems, k.Item) && !p.Has(k.Item)
+	switch {
+	case slices.Contains(optionalItems, k.Item):
+		return !p.Has(k.Item)
+	case k.Item == PriceCrew:
+		return p.Has(PriceCrew) && !p.has(k)
+	}
+	return false
 }
 
 // SectionPath is where the prices of k's item go in a price book file, the key a book leaves

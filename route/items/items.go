@@ -259,11 +259,12 @@ func TapHandholes(n int) media.Quantity {
 // lateral is a pull of its own) and an entry, as at a handhole where a route turns.
 func TapCrew(p *media.PriceBook) []media.Quantity { return AtJunctions(p, 1, 1) }
 
-// Crew is amount of a crew task (media.CrewTasks) when the book prices it, else nothing: crew
-// labour is optional, task by task.
+// Crew is amount of a crew task (media.CrewTasks) when the book prices crews (crew_each), else
+// nothing: a book without crew_each prices labour by the hour alone. A book with crew_each that
+// leaves this task out gets it all the same, not priced (media.PriceBook.NotPriced).
 func Crew(p *media.PriceBook, task string, amount float64) []media.Quantity {
 	k := media.PriceKey{Item: media.PriceCrew, Name: task}
-	if _, ok := p.Price(k); !ok || amount == 0 {
+	if !p.Has(media.PriceCrew) || amount == 0 {
 		return nil
 	}
 	return []media.Quantity{{Category: media.CategoryLabour, Item: crewItems[task], Unit: media.UnitEach, Amount: amount, Price: k}}
