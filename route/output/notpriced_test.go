@@ -7,6 +7,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 
@@ -97,6 +98,18 @@ func TestNotPricedListed(t *testing.T) {
 	}
 	if n != lines || n < 3 {
 		t.Errorf("bom.csv: %d rows not priced, the bill %d; want one per line and at least 3 (new entrance, firestop, patch cords)", n, lines)
+	}
+	// summary.json names the keys, in bill order (material first), for programs; the report
+	// and a sweep's comparison print Summary.NotPricedNote.
+	sum := Summarize(r)
+	if want := []string{"patch_cords_each", "building_entrance_each", "entrance_firestop_each"}; !slices.Equal(sum.NotPriced, want) {
+		t.Errorf("summary not_priced %q, want %q", sum.NotPriced, want)
+	}
+	if !strings.Contains(string(testplan.FileOf(t, files, "summary.json")), `"not_priced": [`) {
+		t.Errorf("summary.json has no not_priced")
+	}
+	if got := Summarize(testplan.DemoResult(t)); got.NotPriced != nil || got.NotPricedNote() != "" {
+		t.Errorf("demo: not priced %q, note %q", got.NotPriced, got.NotPricedNote())
 	}
 	keys := []string{"building_entrance_each", "entrance_firestop_each", "patch_cords_each"}
 	var term bytes.Buffer

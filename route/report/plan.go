@@ -184,7 +184,7 @@ type planView struct {
 	Worst      string
 	Total      string
 	PricedNote string // output.Summary.PricedNote
-	NotPriced  string // the prices the book leaves out that the bill needs, listed not priced (media.BOM.NotPricedKeys)
+	NotPriced  string // output.Summary.NotPricedNote
 	Budget     string
 	Over       string
 	OverPct    string
@@ -476,9 +476,7 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 	if e := r.Estimate; e != nil && e.BOM != nil {
 		v.HasEst = true
 		v.BOMLabel = e.BOM.Label
-		if keys := e.BOM.NotPricedKeys(); len(keys) > 0 {
-			v.NotPriced = "not priced, left out of the total: " + strings.Join(keys, ", ") + " (see the warnings)"
-		}
+		v.NotPriced = s.NotPricedNote()
 		v.Subtotal = money(e.BOM.SubtotalCents)
 		v.Ducts, v.DuctsOver, v.DuctsListed = ductRows(e.Fill, opt)
 		noDuct := 0
