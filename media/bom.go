@@ -81,6 +81,10 @@ type BOMLine struct {
 	PercentOf []string
 	// From is the distinct sources (Quantity.From) of the line's quantities, sorted.
 	From []string
+	// NotPriced marks a line of a price the book leaves out (PriceBook.NotPriced): its
+	// quantity is what the plan needs, UnitCents and ExtendedCents are 0, and the total
+	// leaves it out, as a bid's exclusions.
+	NotPriced bool
 }
 
 // Subtotal is the sum of the extended prices of one category, in cents.
@@ -198,7 +202,8 @@ func (p *PriceBook) Bill(qs []Quantity) (*BOM, error) {
 	for _, k := range keys {
 		amount := sums[k]
 		unitCents, _ := p.Price(k.price)
-		line := BOMLine{Category: k.category, Item: k.item, Unit: k.unit, Price: k.price, UnitCents: unitCents, Summed: amount}
+		line := BOMLine{Category: k.category, Item: k.item, Unit: k.unit, Price: k.price, UnitCents: unitCents, Summed: amount,
+			NotPriced: p.NotPriced(k.price)}
 		var hundredths int64
 		switch {
 		case k.rate.Item != "":
@@ -236,6 +241,44 @@ func (p *PriceBook) Bill(qs []Quantity) (*BOM, error) {
 	b.percentItems(p.BidItems)
 	b.total()
 	return b, nil
+}
+
+// NotPricedText is what a line of a price the book leaves out says where the price would be:
+// "not priced", and the key that prices it.
+func (l BOMLine) NotPricedText() string {
+	return "not priced (no " + l.Price.SectionPath() + " in the price book)"
+}
+
+// NotPriced lists, one sentence each, the prices the book leaves out (PriceBook.NotPriced)
+// that the bill needs, in bill order, each with its lines' items and quantities: the
+// warnings a bid's exclusions give. file names the price book. Empty when every line is priced.
+func (b *BOM) NotPriced(file string) []string {
+	lines := map[string][]string{}
+	for _, l := range b.Lines {
+		if l.NotPriced {
+			k := l.Price.SectionPath()
+			lines[k] = append(lines[k], fmt.Sprintf("%q %s %s", l.Item, strconv.FormatFloat(l.Quantity, 'f', -1, 64), l.Unit))
+		}
+	}
+	keys := b.NotPricedKeys()
+	out := make([]string, 0, len(keys))
+	for _, k := range keys {
+		out = append(out, fmt.Sprintf("%s: %s: not in the price book, so not priced: the plan needs %s; the bill lists them with no price and the total leaves them out",
+			file, k, strings.Join(lines[k], " and ")))
+	}
+	return out
+}
+
+// NotPricedKeys lists the keys of the prices the book leaves out that the bill needs
+// (PriceKey.SectionPath of its NotPriced lines), each once, in bill order.
+func (b *BOM) NotPricedKeys() []string {
+	var keys []string
+	for _, l := range b.Lines {
+		if k := l.Price.SectionPath(); l.NotPriced && !slices.Contains(keys, k) {
+			keys = append(keys, k)
+		}
+	}
+	return keys
 }
 
 // percentItems adds a line for each bid item priced as a percentage, after the other lines:

@@ -196,9 +196,9 @@ func TestBillErrors(t *testing.T) {
 	}{
 		{"missing prices named by key", []Quantity{
 			{Category: CategoryConstruction, Item: "trench", Unit: UnitM, Amount: 3, Price: PriceKey{Item: PriceTrench, Name: "asphalt"}},
-			{Category: CategoryMaterial, Item: "cord", Unit: UnitEach, Amount: 3, Price: PriceKey{Item: PricePatchCord, Medium: "os2"}},
+			{Category: CategoryMaterial, Item: "tray", Unit: UnitEach, Amount: 3, Price: PriceKey{Item: PriceSpliceTray}},
 			{Category: CategoryLabour, Item: "pull", Unit: UnitM, Amount: 3, Price: PriceKey{Item: PriceLabourHour}, Rate: PriceKey{Item: RatePull, Name: "duct"}},
-		}, []string{`price "trench asphalt": missing; add trench_per_m.asphalt`, "add patch_cords_each.os2", "add labour.pull_m_per_hour.duct"}},
+		}, []string{`price "trench asphalt": missing; add trench_per_m.asphalt`, "add splice_tray.each", "add labour.pull_m_per_hour.duct"}},
 		{"bad quantities", []Quantity{
 			{Category: "snacks", Item: "x", Unit: UnitM, Amount: 1, Price: PriceKey{Item: PriceTrench, Name: "turf"}},
 			{Category: CategoryMaterial, Item: "y", Unit: "furlong", Amount: 1, Price: PriceKey{Item: PriceTrench, Name: "turf"}},
@@ -218,12 +218,100 @@ func TestBillErrors(t *testing.T) {
 			}
 		})
 	}
-	_, err = book.Bill([]Quantity{{Category: CategoryMaterial, Item: "cord", Unit: UnitEach, Amount: 1, Price: PriceKey{Item: PricePatchCord, Medium: "om4"}}})
-	if !errors.Is(err, ErrMissingPrice) {
-		t.Errorf("missing price: got %v, want ErrMissingPrice", err)
+	// A book that prices patch cords for one medium lacks the others': a missing price, not
+	// one left out on purpose (PriceBook.NotPriced asks for the whole section absent).
+	cords, err := ParsePriceBook("cords.yaml", []byte("label: test, invented\ncurrency: EUR\nprices_date: 2026-01-01\npatch_cords_each: {os2: 15}\n"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, err = cords.Bill([]Quantity{{Category: CategoryMaterial, Item: "cord", Unit: UnitEach, Amount: 1, Price: PriceKey{Item: PricePatchCord, Medium: "om4"}}})
+	if !errors.Is(err, ErrMissingPrice) || !strings.Contains(err.Error(), "add patch_cords_each.om4") {
+		t.Errorf("missing price: got %v, want ErrMissingPrice naming patch_cords_each.om4", err)
 	}
 	if book.Has(PricePatchCord) || !book.Has(PriceTrench) || !DefaultPriceBook().Has(PricePatchCord) {
 		t.Errorf("Has: wrong answer for patch cords or trench")
+	}
+}
+
+// TestBillNotPriced: a price a book may leave out whole (building entrances, firestop of an
+// entrance there already, patch cords) and leaves out is no error: the bill keeps the quantity
+// the plan needs on a line with no price, the subtotals and total leave it out, and one warning
+// per price left out names the book, the key to add and every line it leaves unpriced. A bid
+// lists what it does not price as exclusions with their quantities (common practice, no
+// published source).
+func TestBillNotPriced(t *testing.T) {
+	t.Parallel()
+	book, err := ParsePriceBook("bare.yaml", []byte("label: test, invented\ncurrency: EUR\nprices_date: 2026-01-01\n"+
+		"trench_per_m: {turf: 40}\n"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	qs := []Quantity{
+		{Category: CategoryConstruction, Item: "trench", Unit: UnitM, Amount: 12.5, Price: PriceKey{Item: PriceTrench, Name: "turf"}},
+		{Category: CategoryConstruction, Item: "new entrance", Unit: UnitEach, Amount: 3, Price: PriceKey{Item: PriceEntrance}, From: []string{"building A"}},
+		{Category: CategoryConstruction, Item: "duct entrance", Unit: UnitEach, Amount: 2, Price: PriceKey{Item: PriceEntrance}},
+		{Category: CategoryConstruction, Item: "firestop", Unit: UnitEach, Amount: 4, Price: PriceKey{Item: PriceFirestop}},
+		{Category: CategoryMaterial, Item: "cord os2", Unit: UnitEach, Amount: 6, Price: PriceKey{Item: PricePatchCord, Medium: "os2"}},
+		{Category: CategoryMaterial, Item: "cord om4", Unit: UnitEach, Amount: 2, Price: PriceKey{Item: PricePatchCord, Medium: "om4"}},
+	}
+	for _, q := range qs[1:] {
+		if !book.NotPriced(q.Price) {
+			t.Errorf("%s: NotPriced false, want true", q.Item)
+		}
+		if DefaultPriceBook().NotPriced(q.Price) {
+			t.Errorf("%s: the demo book prices it, NotPriced true", q.Item)
+		}
+	}
+	if book.NotPriced(PriceKey{Item: PriceTrench, Name: "asphalt"}) {
+		t.Errorf("trench asphalt: a required price is never NotPriced")
+	}
+	b, err := book.Bill(qs)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := map[string]float64{"trench": 12.5, "new entrance": 3, "duct entrance": 2, "firestop": 4, "cord os2": 6, "cord om4": 2}
+	for _, l := range b.Lines {
+		if l.Quantity != want[l.Item] {
+			t.Errorf("%s: quantity %g, want %g", l.Item, l.Quantity, want[l.Item])
+		}
+		if got := l.Item != "trench"; l.NotPriced != got || (got && (l.UnitCents != 0 || l.ExtendedCents != 0)) {
+			t.Errorf("%s: not priced %v at %d, extended %d", l.Item, l.NotPriced, l.UnitCents, l.ExtendedCents)
+		}
+		delete(want, l.Item)
+	}
+	if len(want) != 0 {
+		t.Errorf("lines missing: %v", want)
+	}
+	if b.SubtotalCents != 50000 || b.TotalCents != 50000 {
+		t.Errorf("subtotal %d, total %d; want 50000 each (the trench alone)", b.SubtotalCents, b.TotalCents)
+	}
+	got := b.NotPriced(book.File)
+	wantW := []string{ // in bill order: material, then construction
+		`bare.yaml: patch_cords_each: not in the price book, so not priced: the plan needs "cord om4" 2 each and "cord os2" 6 each; the bill lists them with no price and the total leaves them out`,
+		`bare.yaml: building_entrance_each: not in the price book, so not priced: the plan needs "duct entrance" 2 each and "new entrance" 3 each; the bill lists them with no price and the total leaves them out`,
+		`bare.yaml: entrance_firestop_each: not in the price book, so not priced: the plan needs "firestop" 4 each; the bill lists them with no price and the total leaves them out`,
+	}
+	if !slices.Equal(got, wantW) {
+		t.Errorf("warnings:\n%s\nwant:\n%s", strings.Join(got, "\n"), strings.Join(wantW, "\n"))
+	}
+	if err := book.Check([]PriceKey{{Item: PriceEntrance}, {Item: PricePatchCord, Medium: "os2"}}); err != nil {
+		t.Errorf("Check asks for prices left out on purpose: %v", err)
+	}
+	// Crew tasks: a book without crew_each prices labour by the hour alone (no crew task is
+	// asked of it); one with crew_each leaves out the tasks it does not list.
+	crews, err := ParsePriceBook("crews.yaml", []byte("label: test, invented\ncurrency: EUR\nprices_date: 2026-01-01\ncrew_each: {pull_setup: 100}\n"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	setup, prep := PriceKey{Item: PriceCrew, Name: CrewPullSetup}, PriceKey{Item: PriceCrew, Name: CrewCableEndPrep}
+	if book.NotPriced(prep) || crews.NotPriced(setup) || !crews.NotPriced(prep) {
+		t.Errorf("crew tasks: NotPriced %v without crew_each, %v for a task priced, %v for one left out; want false, false, true",
+			book.NotPriced(prep), crews.NotPriced(setup), crews.NotPriced(prep))
+	}
+	cb, err := crews.Bill([]Quantity{{Category: CategoryLabour, Item: "cable end preparation", Unit: UnitEach, Amount: 8, Price: prep}})
+	if err != nil || len(cb.Lines) != 1 || !cb.Lines[0].NotPriced || cb.Lines[0].Quantity != 8 ||
+		!slices.Equal(cb.NotPriced("crews.yaml"), []string{`crews.yaml: crew_each.cable_end_prep: not in the price book, so not priced: the plan needs "cable end preparation" 8 each; the bill lists them with no price and the total leaves them out`}) {
+		t.Errorf("crew task left out: %v, %+v", err, cb)
 	}
 }
 

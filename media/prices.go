@@ -4,6 +4,7 @@ import (
 	_ "embed"
 	"fmt"
 	"regexp"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -38,7 +39,7 @@ const (
 	PriceBidItem       = "bid-item"          // an entry of bid_items priced as a lump sum or per unit of its basis: Name its id (optional section)
 	PriceEntrance      = "entrance"          // building entry, each entrance a plan uses: wall penetration, sleeve or entrance conduit, firestop (optional)
 	PriceFirestop      = "entrance-firestop" // each entrance a plan uses that is there already: firestopping the cables through its sleeve (optional)
-	PriceCrew          = "crew"              // crew labour, each: Name one of CrewTasks (optional, each task on its own)
+	PriceCrew          = "crew"              // crew labour, each: Name one of CrewTasks (optional section; a task it leaves out is NotPriced)
 
 	RatePull        = "pull-rate"        // metres pulled per hour: Name pathway type (duct, tunnel, aerial, buried, tray)
 	RateSplice      = "splice-rate"      // splices per hour
@@ -218,6 +219,35 @@ func (p *PriceBook) Has(item string) bool {
 	return false
 }
 
+// optionalItems are the price items a book may leave out whole (PriceBook.NotPriced).
+var optionalItems = []string{PriceEntrance, PriceFirestop, PricePatchCord}
+
+// NotPriced reports whether k is a price the book leaves out on purpose: its item is one a book
+// may leave out whole (building_entrance_each, entrance_firestop_each, patch_cords_each) and the
+// book prices no key of that item; or it is a crew task (crew_each) of a book that prices crews
+// but not that task (a book without crew_each prices labour by the hour alone, and the plan
+// asks it for no crew task: items.Crew). A plan still needs what such a price buys: Check does
+// not ask for it, and Bill lists its quantity on a line with no price (BOMLine.NotPriced), as a
+// bid lists its exclusions. It is the one place that decides that an optional price is absent.
+func (p *PriceBook) NotPriced(k PriceKey) bool {
+	switch {
+	case slices.Contains(optionalItems, k.Item):
+		return !p.Has(k.Item)
+	case k.Item == PriceCrew:
+		return p.Has(PriceCrew) && !p.has(k)
+	}
+	return false
+}
+
+// SectionPath is where the prices of k's item go in a price book file, the key a book leaves
+// out to leave the item unpriced: "patch_cords_each" for every patch cord, else k.Path().
+func (k PriceKey) SectionPath() string {
+	if k.Item == PricePatchCord {
+		return "patch_cords_each"
+	}
+	return k.Path()
+}
+
 // Keys returns every key the book prices, sorted by item, medium, construction, name and count.
 func (p *PriceBook) Keys() []PriceKey {
 	keys := make([]PriceKey, 0, len(p.money)+len(p.rates))
@@ -235,7 +265,8 @@ func sortKeys(keys []PriceKey) {
 	sort.Slice(keys, func(i, j int) bool { return keyLess(keys[i], keys[j]) })
 }
 
-// Check reports every key of needs the book lacks, at once, as an *input.Problems
+// Check reports every key of needs the book lacks (but not those it leaves out on purpose,
+// NotPriced), at once, as an *input.Problems
 // with ErrMissingPrice, each naming the key and the path to add it at; nil when all are there.
 func (p *PriceBook) Check(needs []PriceKey) error {
 	if p.hasAll(needs) { // the usual case, without sorting or allocating
@@ -250,7 +281,7 @@ func (p *PriceBook) Check(needs []PriceKey) error {
 			continue
 		}
 		seen[k] = true
-		if !p.has(k) {
+		if !p.has(k) && !p.NotPriced(k) {
 			errs.Add(&input.Problem{File: p.File, Item: "price " + strconv.Quote(k.String()),
 				Err: input.Errorf(ErrMissingPrice, "missing; add %s", k.Path())})
 		}
@@ -258,10 +289,11 @@ func (p *PriceBook) Check(needs []PriceKey) error {
 	return sorted(&errs)
 }
 
-// hasAll reports whether the book prices every key of needs.
+// hasAll reports whether the book prices every key of needs, or leaves it out on purpose
+// (NotPriced).
 func (p *PriceBook) hasAll(needs []PriceKey) bool {
 	for _, k := range needs {
-		if !p.has(k) {
+		if !p.has(k) && !p.NotPriced(k) {
 			return false
 		}
 	}

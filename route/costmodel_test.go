@@ -361,10 +361,7 @@ func problemOf(t *testing.T, r *route.Result) (*optimize.Problem, []site.Link) {
 	if len(errs) > 0 {
 		t.Fatal(errs)
 	}
-	cm, err := routing.NewModel(r.Engine, r.Plan.Design)
-	if err != nil {
-		t.Fatal(err)
-	}
+	cm := routing.NewModel(r.Engine, r.Plan.Design)
 	prob, err := routing.Problem(r.Site, cm, links)
 	if err != nil {
 		t.Fatal(err)

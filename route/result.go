@@ -273,9 +273,9 @@ func prepare(s *site.Site, p *plan.Plan, eng *media.Engine) (prepared, error) {
 		links, notes, errs = s.Links(p, hub)
 	}
 	errs = append(errs, p.CheckRates(eng.Catalog())...)
-	model, err := routing.NewModel(eng, p.Design)
-	if err != nil {
-		errs = append(errs, err)
+	model := routing.NewModel(eng, p.Design)
+	if err := model.CheckPrices(s, links); err != nil {
+		errs = append(errs, err) // every price routing asks and the book lacks, with the other problems
 	}
 	if len(errs) > 0 {
 		var l input.Problems

@@ -48,10 +48,7 @@ func TestSavingOverIndependentRouting(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			cm, err := routing.NewModel(eng, p.Design)
-			if err != nil {
-				t.Fatal(err)
-			}
+			cm := routing.NewModel(eng, p.Design)
 			hub, err := s.Hub(p)
 			if err != nil {
 				t.Fatal(err)

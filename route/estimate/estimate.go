@@ -352,6 +352,7 @@ func Build(ctx context.Context, in Input) (*Estimate, error) {
 		return nil, fmt.Errorf("bill of materials: %w", err)
 	}
 	e.BOM = bom
+	e.Warnings = append(e.Warnings, bom.NotPriced(r.Engine.PriceBook().File)...)
 	if r.Plan == nil {
 		return e, nil
 	}
@@ -1068,9 +1069,7 @@ func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg) []
 		work("terminate copper cables", media.UnitEach, ends, media.PriceKey{Item: media.RateTermination})
 		work("certify copper channels", media.UnitEach, float64(t.Terminated), media.PriceKey{Item: media.RateLossTest})
 	}
-	if p.Has(media.PricePatchCord) {
-		add(media.CategoryMaterial, "patch cord "+l.Medium, media.UnitEach, 2, media.PriceKey{Item: media.PricePatchCord, Medium: l.Medium})
-	}
+	add(media.CategoryMaterial, "patch cord "+l.Medium, media.UnitEach, 2, media.PriceKey{Item: media.PricePatchCord, Medium: l.Medium})
 	if a := eng.Catalog().Application(l.Application); a != nil {
 		add(media.CategoryOptics, "transceiver "+a.Transceiver, media.UnitEach, 2, media.PriceKey{Item: media.PriceTransceiver, Name: a.Transceiver})
 	}

@@ -212,16 +212,17 @@ func RunHandholes(n int) media.Quantity {
 // is there already (geo.Entry.Built: an existing pathway meets the wall, no proposed one)
 // needs only the cables firestopped through its sleeve, at entrance_firestop_each, or at
 // building_entrance_each when the book has no such price (the dearer, rather than nothing).
-// A book with neither prices no entry.
+// A book with neither still gets the entry, at the price it leaves out (media.PriceBook.NotPriced):
+// the bill lists it with no price.
 func Entrance(p *media.PriceBook, d plan.Design, lateralM float64, built bool) []media.Quantity {
+	firestop, entrance := media.PriceKey{Item: media.PriceFirestop}, media.PriceKey{Item: media.PriceEntrance}
 	var q []media.Quantity
-	switch {
-	case built && p.Has(media.PriceFirestop):
+	if built && (!p.NotPriced(firestop) || p.NotPriced(entrance)) {
 		q = append(q, media.Quantity{Category: media.CategoryConstruction, Item: "building entrance already there: firestop through its sleeve",
-			Unit: media.UnitEach, Amount: 1, Price: media.PriceKey{Item: media.PriceFirestop}})
-	case p.Has(media.PriceEntrance):
+			Unit: media.UnitEach, Amount: 1, Price: firestop})
+	} else {
 		q = append(q, media.Quantity{Category: media.CategoryConstruction, Item: "building entrance: penetration, sleeve, firestop",
-			Unit: media.UnitEach, Amount: 1, Price: media.PriceKey{Item: media.PriceEntrance}})
+			Unit: media.UnitEach, Amount: 1, Price: entrance})
 	}
 	if lateralM > 0 {
 		lat := &geo.Span{Type: geo.TypeDuct, LengthM: lateralM}
@@ -242,11 +243,12 @@ func TapHandholes(n int) media.Quantity {
 // lateral is a pull of its own) and an entry, as at a handhole where a route turns.
 func TapCrew(p *media.PriceBook) []media.Quantity { return AtJunctions(p, 1, 1) }
 
-// Crew is amount of a crew task (media.CrewTasks) when the book prices it, else nothing: crew
-// labour is optional, task by task.
+// Crew is amount of a crew task (media.CrewTasks) when the book prices crews (crew_each), else
+// nothing: a book without crew_each prices labour by the hour alone. A book with crew_each that
+// leaves this task out gets it all the same, not priced (media.PriceBook.NotPriced).
 func Crew(p *media.PriceBook, task string, amount float64) []media.Quantity {
 	k := media.PriceKey{Item: media.PriceCrew, Name: task}
-	if _, ok := p.Price(k); !ok || amount == 0 {
+	if !p.Has(media.PriceCrew) || amount == 0 {
 		return nil
 	}
 	return []media.Quantity{{Category: media.CategoryLabour, Item: crewItems[task], Unit: media.UnitEach, Amount: amount, Price: k}}
@@ -397,9 +399,9 @@ func AddedDuctWalls(builtAt map[string]int, sp *geo.Span) int {
 // through n walls an existing pathway already enters (AddedDuctWalls): a new penetration,
 // sleeve and firestop at each (one for the ducts a trench adds, however many, as the trench
 // is one), priced as a new building entrance (building_entrance_each; README, "Building
-// entry"). A book without that price prices none, as Entrance does.
+// entry"). A book without that price leaves it unpriced, as Entrance does.
 func AddedDuctEntrances(p *media.PriceBook, n int) []media.Quantity {
-	if n <= 0 || !p.Has(media.PriceEntrance) {
+	if n <= 0 {
 		return nil
 	}
 	return []media.Quantity{{Category: media.CategoryConstruction, Item: "building entrance for a duct added beside a full one: penetration, sleeve, firestop",

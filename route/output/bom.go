@@ -25,6 +25,7 @@ const (
 	rowOverhead    = "overhead"
 	rowTax         = "tax"
 	rowTotal       = "total"
+	rowNote        = "note" // after the total when it prices only some legs (PricedNoteOf)
 )
 
 // bomUnit is a BOM line's unit, quantity and unit price at the output edge: metres become
@@ -112,7 +113,7 @@ func fromCell(l media.BOMLine) string {
 
 // bomCSV renders bom.csv: one row per line (category, item, unit, quantity, unit price,
 // extended price, and last the legs, buildings, spans or junctions it comes from), then a subtotal row per category and for all, contingency, overhead,
-// tax and total. Money has two decimals; imperial unit prices per foot are the extended price
+// tax and total, and a note when the total prices only some legs (PricedNoteOf). Money has two decimals; imperial unit prices per foot are the extended price
 // over the feet shown, with six decimals or as many more as the row needs to multiply out.
 func bomCSV(out io.Writer, r *route.Result, opt WriteOptions) error {
 	b := r.Estimate.BOM
@@ -129,7 +130,11 @@ func bomCSV(out io.Writer, r *route.Result, opt WriteOptions) error {
 			shown, _ := strconv.ParseFloat(q, 64)
 			p = perFoot(l.ExtendedCents, shown, price)
 		}
-		w.Write([]string{l.Category, describe(opt, l), unit, q, p, media.FormatCents(l.ExtendedCents), fromText(l)})
+		ext := media.FormatCents(l.ExtendedCents)
+		if l.NotPriced {
+			p, ext = l.NotPricedText(), ""
+		}
+		w.Write([]string{l.Category, describe(opt, l), unit, q, p, ext, fromText(l)})
 	}
 	for _, s := range b.Subtotal {
 		w.Write([]string{rowSubtotal, s.Category, "", "", "", media.FormatCents(s.Cents), ""})
@@ -142,6 +147,9 @@ func bomCSV(out io.Writer, r *route.Result, opt WriteOptions) error {
 	w.Write([]string{rowTax, pct(b.TaxBP) + " % of " + taxedWords(b), "%", pct(b.TaxBP),
 		media.FormatCents(b.TaxBaseCents), media.FormatCents(b.TaxCents), ""})
 	w.Write([]string{rowTotal, b.Label, "", "", "", media.FormatCents(b.TotalCents), ""})
+	if note := PricedNoteOf(r); note != "" {
+		w.Write([]string{rowNote, note, "", "", "", "", ""})
+	}
 	return w.Flush()
 }
 
@@ -267,9 +275,14 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 			}
 			unitPrice = workbook.Formula(fmt.Sprintf("ROUND((%s)*%s/100,2)", strings.Join(sums, "+"), pct(l.PercentBP)), price, 2)
 		}
+		extended := workbook.Formula(fmt.Sprintf("ROUND(%s*%s,2)", workbook.Ref(3, row), workbook.Ref(4, row)), money(l.ExtendedCents), 2)
+		if l.NotPriced {
+			// The quantity the plan needs, and in place of a price the words that say why
+			// there is none; no extended price, so the subtotals leave it out.
+			unitPrice, extended = workbook.Text(l.NotPricedText()), workbook.Blank()
+		}
 		bom.Append(workbook.Text(l.Category), workbook.Text(describe(opt, l)), workbook.Text(unit), workbook.Number(qty, dq),
-			unitPrice, workbook.Formula(fmt.Sprintf("ROUND(%s*%s,2)", workbook.Ref(3, row), workbook.Ref(4, row)), money(l.ExtendedCents), 2),
-			workbook.Text(fromCell(l)))
+			unitPrice, extended, workbook.Text(fromCell(l)))
 	}
 	bom.Append()
 	subRow := map[string]int{}
@@ -321,6 +334,10 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 	totalRow := bom.Rows() + 2
 	bom.Append(workbook.Text(rowTotal), workbook.Text(b.Label), workbook.Blank(), workbook.Blank(), workbook.Blank(),
 		workbook.Formula(all+"+"+cont+"+"+over+"+"+workbook.Ref(5, taxRow), money(b.TotalCents), 2))
+	note := PricedNoteOf(r)
+	if note != "" {
+		bom.Append(workbook.Text(rowNote), workbook.Text(note))
+	}
 	ref := func(row int) string { return "'bill of materials'!" + workbook.Ref(5, row) }
 
 	// Summary: figures, then the money as formulas on the bill of materials.
@@ -352,6 +369,9 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 	moneyRow("tax", ref(taxRow), b.TaxCents)
 	totalAt := sum.Rows() + 2
 	moneyRow("total", ref(totalRow), b.TotalCents)
+	if note != "" {
+		text(rowNote, note)
+	}
 	budgetAt := sum.Rows() + 2
 	// Without a budget the budget cell is blank (a formula reads it as 0, no budget), not
 	// a budget of 0; typing one in makes the two rows below check it.

@@ -454,6 +454,10 @@ type Summary struct {
 	Warnings      []string       `json:"warnings"`
 	// Notes say what of the plan's entries was left out, and why (route.Result.Notes).
 	Notes []string `json:"notes,omitempty"`
+	// NotPriced lists the keys of the prices the book leaves out that the bill needs
+	// (media.BOM.NotPricedKeys): their lines have a quantity and no price, and the total
+	// leaves them out (see NotPricedNote); absent when every line is priced.
+	NotPriced []string `json:"not_priced,omitempty"`
 	// StartedFrom names the plan folder whose routes the optimizer began from (route.Result
 	// .StartedFrom: `plan --start-from`, a sweep's base scenario); absent for a plan solved
 	// from scratch.
@@ -570,6 +574,7 @@ func Summarize(r *route.Result) Summary {
 				s.PullsOverRating++
 			}
 		}
+		s.NotPriced = b.NotPricedKeys()
 		s.WarningCounts["install"] = len(e.Warnings)
 		s.WarningCounts["budget"] = 0
 		if e.BudgetWarning != "" {
@@ -754,6 +759,9 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 	if note := s.PricedNote(); note != "" {
 		fmt.Fprintf(w, "warning: %s\n", note)
 	}
+	for _, np := range b.NotPriced(r.Engine.PriceBook().File) { // also among the warnings (estimate.Build)
+		fmt.Fprintf(w, "warning: %s\n", t(np))
+	}
 	if s.BudgetCents != nil {
 		word, over := "under", -*s.OverBudgetCents
 		if *s.OverBudgetCents > 0 {
@@ -830,7 +838,7 @@ func fillLine(fill []estimate.DuctFill) string {
 // PricedNote says, when some legs are infeasible, that the plan's costs price only the
 // feasible ones (an infeasible leg has no route, no medium and no bill lines), or, when every
 // leg is, that no leg is priced; "" when every leg is feasible. The terminal and the report
-// print it beside the total.
+// print it beside the total, bom.csv and bom.xlsx after it (PricedNoteOf).
 func (s Summary) PricedNote() string {
 	if s.Infeasible == 0 {
 		return ""
@@ -844,6 +852,27 @@ func (s Summary) PricedNote() string {
 	}
 	return fmt.Sprintf("the total prices the %s of %d only; %s not priced (no route or medium was found)",
 		Counted(s.Legs-s.Infeasible, "feasible leg", "feasible legs"), s.Legs, Counted(s.Infeasible, "infeasible leg is", "infeasible legs are"))
+}
+
+// NotPricedNote says, when the book leaves out prices the bill needs, that the total leaves
+// their lines out, naming the keys; "" when every line is priced. The report prints it beside
+// the total and a sweep's comparison in the scenario's note, where totals are ranked.
+func (s Summary) NotPricedNote() string {
+	if len(s.NotPriced) == 0 {
+		return ""
+	}
+	return "not priced, left out of the total: " + strings.Join(s.NotPriced, ", ") + " (see the warnings)"
+}
+
+// PricedNoteOf is r's PricedNote, counted from its legs without the rest of the summary.
+func PricedNoteOf(r *route.Result) string {
+	s := Summary{Legs: len(r.Legs)}
+	for i := range r.Legs {
+		if !r.Legs[i].Feasible {
+			s.Infeasible++
+		}
+	}
+	return s.PricedNote()
 }
 
 // DemoPricesWarning is the warning printed on the terminal, written in summary.json and shown

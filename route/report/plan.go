@@ -190,6 +190,7 @@ type planView struct {
 	Worst      string
 	Total      string
 	PricedNote string // output.Summary.PricedNote
+	NotPriced  string // output.Summary.NotPricedNote
 	Budget     string
 	Over       string
 	OverPct    string
@@ -495,6 +496,7 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 	if e := r.Estimate; e != nil && e.BOM != nil {
 		v.HasEst = true
 		v.BOMLabel = e.BOM.Label
+		v.NotPriced = s.NotPricedNote()
 		v.Subtotal = money(e.BOM.SubtotalCents)
 		v.Ducts, v.DuctsOver, v.DuctsListed = ductRows(e.Fill, opt)
 		noDuct := 0

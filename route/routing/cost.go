@@ -186,20 +186,54 @@ func (m *Model) whyNot(medium string, facts media.Link, c spanClass) string {
 	return medium + " is not allowed there"
 }
 
-// NewModel checks that the price book has every price the route-dependent items of the
-// plan need; a missing one is an error naming its key.
-func NewModel(eng *media.Engine, d plan.Design) (*Model, error) {
-	p := eng.PriceBook()
-	m := &Model{eng: eng, prices: p, design: d, allowedMemo: map[allowedKey]bool{}, cableMemo: map[cableKey]int64{},
+// NewModel builds the cost model of the plan's design on the engine's price book. The prices
+// the optimizer's problem asks of the book are checked by CheckPrices, all at once.
+func NewModel(eng *media.Engine, d plan.Design) *Model {
+	return &Model{eng: eng, prices: eng.PriceBook(), design: d, allowedMemo: map[allowedKey]bool{}, cableMemo: map[cableKey]int64{},
 		bidMemo: map[media.BidBases][]media.Quantity{}}
+}
+
+// CheckPrices reports every price and labour rate the optimizer's problem of links on site s
+// asks of the book and the book lacks, at once (media.PriceBook.Check: an *input.Problems
+// with media.ErrMissingPrice, each naming the book, the key and where to add it); nil when the
+// book has them all. It is the one check of those prices: check runs it before routing, and
+// the problem runs it before pricing anything. The bill asks for more once the routes are
+// known (panels and enclosures of the strands routed, splice trays, tests), all at once too.
+func (m *Model) CheckPrices(s *site.Site, links []site.Link) error {
+	return m.prices.Check(m.priceNeeds(s, layoutOf(s), m.runsOf(s), links))
+}
+
+// priceNeeds lists the prices and rates the optimizer's problem of links prices with (problem),
+// whatever the routes: every pathway type's pull (and innerduct); opening each proposed span by
+// its method, with the handholes along its run; a handhole at a junction when a charge or a
+// prepaid tap may add one; and the entry and counted lateral of every entrance a route may use.
+// Prices a book may leave out whole (media.PriceBook.NotPriced) are listed; Check passes them.
+func (m *Model) priceNeeds(s *site.Site, lay *layout, runs []site.NewRun, links []site.Link) []media.PriceKey {
+	d := m.design
 	var needs []media.PriceKey
 	for _, t := range items.PathwayTypes {
 		needs = append(needs, items.KeysOf(items.AlongSpan(d, t, 1))...)
 	}
-	if err := p.Check(needs); err != nil {
-		return nil, err
+	hh := false
+	for _, r := range runs {
+		hh = hh || (len(r.Handholes) > 0 && d.AllowNewTrench)
 	}
-	return m, nil
+	for i := range s.Net.Spans {
+		if sp := &s.Net.Spans[i]; sp.Status == geo.StatusProposed {
+			needs = append(needs, items.KeysOf(items.Opening(d, sp, items.MethodOf(m.prices, d, sp)))...)
+		}
+	}
+	if hh || len(lay.charges) > 0 || len(prepaidTaps(s, lay, links)) > 0 {
+		needs = append(needs, items.KeysOf([]media.Quantity{items.JoinHandholes(1)})...)
+	}
+	for _, en := range lay.entrances {
+		needs = append(needs, items.KeysOf(items.Entrance(m.prices, d, en.entry.LateralM, en.entry.Built))...)
+	}
+	for _, b := range slices.Sorted(maps.Keys(lay.endEntry)) {
+		e := lay.endEntry[b]
+		needs = append(needs, items.KeysOf(items.Entrance(m.prices, d, e.LateralM, e.Built))...)
+	}
+	return needs
 }
 
 // problem builds the optimizer's problem: one edge per span (same index), one demand per link;
@@ -216,10 +250,8 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 	// Handholes along runs of new construction (runsOf), by span: each is paid with its span,
 	// and a run is opened whole (site.NewRun).
 	runHH := runHandholes(runs)
-	if len(runHH) > 0 && d.AllowNewTrench {
-		if err := m.prices.Check(items.KeysOf([]media.Quantity{items.RunHandholes(1)})); err != nil {
-			return nil, nil, nil, err
-		}
+	if err := m.prices.Check(m.priceNeeds(s, lay, runs, links)); err != nil {
+		return nil, nil, nil, err // every price the problem needs and the book lacks, at once
 	}
 	// Duct fill: the optimizer's incremental NFPA 70 Chapter 9 Table 1 packing (nil Fits).
 	builtAt := s.BuiltEntriesAt()
@@ -245,9 +277,6 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 		}
 		if sp.Status == geo.StatusProposed {
 			open := items.Opening(d, sp, items.MethodOf(m.prices, d, sp))
-			if err := m.prices.Check(items.KeysOf(open)); err != nil {
-				return nil, nil, nil, err
-			}
 			e.Proposed, e.FixedCents = true, m.cents(open...)+m.bidPer(media.BidBases{NewBuriedM: 1}, sp.LengthM)
 			if n := len(runHH[sp.ID]); n > 0 {
 				e.FixedCents += m.cents(items.RunHandholes(n))
@@ -315,9 +344,6 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 	}
 	prepaid := prepaidTaps(s, lay, links)
 	if len(lay.charges) > 0 || len(prepaid) > 0 {
-		if err := m.prices.Check(items.KeysOf([]media.Quantity{items.JoinHandholes(1)})); err != nil {
-			return nil, nil, nil, err
-		}
 		hh := m.cents(items.JoinHandholes(1))
 		for _, c := range lay.charges {
 			cents := hh
@@ -330,17 +356,8 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 	// An entrance of a building with several is paid once when a route uses it (those of a
 	// building with one are paid whatever the routes: Routed.ConstantCents).
 	for _, en := range lay.entrances {
-		c, err := m.entranceCents(en.building, en.entry)
-		if err != nil {
-			return nil, nil, nil, err
-		}
-		if c > 0 {
+		if c := m.entranceCents(en.entry); c > 0 {
 			p.Charges = append(p.Charges, optimize.Charge{ID: "entrance " + en.entry.ID + " of " + en.building, Edges: en.edges, Cents: c})
-		}
-	}
-	for _, b := range slices.Sorted(maps.Keys(lay.endEntry)) {
-		if _, err := m.entranceCents(b, lay.endEntry[b]); err != nil {
-			return nil, nil, nil, err // a counted lateral the book cannot price as new construction
 		}
 	}
 	infos := make([]demandInfo, len(links))
@@ -676,17 +693,10 @@ func (m *Model) bidItems(bases media.BidBases) []media.Quantity {
 // entranceCents is what using a building entrance costs whatever the cables in it: its entry
 // and its counted lateral built (items.Entrance), with the bid items per metre of new buried
 // work along the lateral. The handhole where the lateral taps a duct is its junction's
-// (layout's charges, prepaidTaps).
-func (m *Model) entranceCents(building string, e geo.Entry) (int64, error) {
-	lateralM := e.LateralM
-	work := items.Entrance(m.prices, m.design, lateralM, e.Built)
-	if err := m.prices.Check(items.KeysOf(work)); err != nil {
-		if lateralM > 0 {
-			return 0, fmt.Errorf("building %s, entrance %s: its counted lateral of %.1f m is built as new construction: %w", building, e.ID, lateralM, err)
-		}
-		return 0, fmt.Errorf("building %s, entrance %s: %w", building, e.ID, err)
-	}
-	return m.cents(work...) + m.bidPer(media.BidBases{NewBuriedM: 1}, lateralM), nil
+// (layout's charges, prepaidTaps). Its prices are checked by CheckPrices (priceNeeds).
+func (m *Model) entranceCents(e geo.Entry) int64 {
+	work := items.Entrance(m.prices, m.design, e.LateralM, e.Built)
+	return m.cents(work...) + m.bidPer(media.BidBases{NewBuriedM: 1}, e.LateralM)
 }
 
 // cents prices quantities one by one (media.PriceBook.Cents) and sums them.

@@ -53,10 +53,7 @@ func TestPrepaidTapHandhole(t *testing.T) {
 	if len(errs) > 0 {
 		t.Fatal(errs)
 	}
-	m, err := NewModel(eng, p.Design)
-	if err != nil {
-		t.Fatal(err)
-	}
+	m := NewModel(eng, p.Design)
 	r, err := Solve(context.Background(), s, m, links)
 	if err != nil {
 		t.Fatal(err)
@@ -76,7 +73,7 @@ func TestPrepaidTapHandhole(t *testing.T) {
 	}
 	var entries int64
 	for _, e := range r.Entrances {
-		c, _ := m.entranceCents(e.Building, geo.Entry{ID: e.Entrance, Access: geo.Access{LateralM: e.LateralM}, Built: e.Built})
+		c := m.entranceCents(geo.Entry{ID: e.Entrance, Access: geo.Access{LateralM: e.LateralM}, Built: e.Built})
 		entries += c
 	}
 	if hh := m.cents(items.JoinHandholes(1)); r.ConstantCents != entries+hh {

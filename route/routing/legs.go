@@ -82,12 +82,17 @@ type Leg struct {
 }
 
 // LegCost breaks down what one leg costs, in integer cents of the price book's currency: its
-// bill items (legItems) priced one by one, and its share of new construction.
+// bill items (estimate's legItems) priced one by one, and its share of new construction. The
+// four parts are links.csv's cost columns; README ("links.csv") maps them onto the bill's
+// categories.
 type LegCost struct {
-	CableCents        int64 // cable material, entrance transitions and reel joins
-	LabourCents       int64 // installation labour: pulls, splicing, terminating, testing
-	ConstructionCents int64 // innerduct, and this leg's share of new trench it opens and of added duct
-	OpticsCents       int64 // terminations, patch cords and transceivers
+	CableCents  int64 // bill material: cable, entrance transition enclosures, mid-span closures, their splice trays, attenuators
+	LabourCents int64 // bill labour: pulls, splicing, terminating, testing, crew tasks
+	// ConstructionCents is its innerduct (bill material) and its share of new construction as
+	// the optimizer prices it (bill construction: trench, added duct, handholes, entrances),
+	// with the bid items per metre of new buried work the optimizer prices with the trench.
+	ConstructionCents int64
+	OpticsCents       int64 // terminations and patch cords (bill material), transceivers (bill optics)
 }
 
 // TotalCents is the sum of the breakdown.

@@ -48,10 +48,7 @@ func excluded(t *testing.T, rules *media.Rules) map[string]bool {
 	if len(errs) > 0 {
 		t.Fatal(errs)
 	}
-	cm, err := NewModel(eng, p.Design)
-	if err != nil {
-		t.Fatal(err)
-	}
+	cm := NewModel(eng, p.Design)
 	prob, lay, _, err := problem(s, cm, links, cm.runsOf(s))
 	if err != nil {
 		t.Fatal(err)

@@ -195,7 +195,7 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 	tapUsers := map[string][]int{} // the junctions of singleTaps, each with the legs it serves
 	for _, e := range r.Entrances {
 		if e.Single {
-			c, _ := m.entranceCents(e.Building, geo.Entry{ID: e.Entrance, Access: geo.Access{LateralM: e.LateralM}, Built: e.Built}) // checked by problem
+			c := m.entranceCents(geo.Entry{ID: e.Entrance, Access: geo.Access{LateralM: e.LateralM}, Built: e.Built}) // its prices checked by problem
 			r.ConstantCents += c
 			users := through[[2]string{e.Building, e.Entrance}]
 			shareAmong(r.Legs, c, users)

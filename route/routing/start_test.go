@@ -60,10 +60,7 @@ func TestStartRoutesRebuildsSolution(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			m, err := NewModel(eng, tc.p.Design)
-			if err != nil {
-				t.Fatal(err)
-			}
+			m := NewModel(eng, tc.p.Design)
 			hub, _ := tc.s.Hub(tc.p)
 			links, _, errs := tc.s.Links(tc.p, hub)
 			if len(errs) > 0 {
@@ -167,10 +164,7 @@ func TestStartSameProblem(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	m, err := NewModel(eng, p.Design)
-	if err != nil {
-		t.Fatal(err)
-	}
+	m := NewModel(eng, p.Design)
 	hub, _ := s.Hub(p)
 	links, _, errs := s.Links(p, hub)
 	if len(errs) > 0 {

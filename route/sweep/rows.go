@@ -46,7 +46,8 @@ type Row struct {
 	MediaMix        string   `json:"media_mix"`       // feasible legs per medium: "om4:3 os2:5", by medium
 	Warnings        int      `json:"warnings"`
 	// Note says what of the base plan the scenario left out, and why (output.Summary.Notes,
-	// joined by "; "), e.g. a link entry for the building the scenario makes the hub.
+	// joined by "; "), e.g. a link entry for the building the scenario makes the hub; and what
+	// its total leaves out, priced by a book without them (output.Summary.NotPricedNote).
 	Note string `json:"note,omitempty"`
 	// Report is the name of the scenario's HTML report in its folder (report.html, written
 	// with Options.Extra), "" when it has none: the comparison links it.
@@ -86,6 +87,9 @@ func (r *Row) fill(s output.Summary) {
 	r.MediaMix = strings.Join(media, " ")
 	r.Warnings = s.WarningCount
 	r.Note = strings.Join(s.Notes, "; ")
+	if np := s.NotPricedNote(); np != "" { // its total is not comparable with a book that prices them
+		r.Note = strings.TrimPrefix(r.Note+"; "+np, "; ")
+	}
 	r.DemoPrices = s.DemoPrices != ""
 	r.ObjectiveCents, r.LowerBoundCents, r.GapPct = s.ObjectiveCents, s.LowerBoundCents, s.GapPct
 	r.Status = StatusOK

@@ -1,0 +1,270 @@
+package output
+
+import (
+	"bytes"
+	"context"
+	"fmt"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"slices"
+	"strings"
+	"testing"
+
+	"spanwright/route"
+	"spanwright/route/internal/testplan"
+	"spanwright/route/internal/testsite"
+)
+
+// TestNotPricedListed plans the demo with a price book that leaves out the optional prices
+// of building entrances, the firestop of entrances there already and patch cords. A bid lists
+// what it does not price as exclusions, with their quantities (common practice, no published
+// source): the bill keeps a line for each with the quantity the plan needs and no price, in
+// bom.csv too; the total is the sum of the priced lines; one warning per price left out names
+// the book and the key, among the warnings and on the terminal.
+func TestNotPricedListed(t *testing.T) {
+	t.Parallel()
+	r, path := notPricedResult(t)
+	b, con := r.Estimate.BOM, r.Estimate.Construction
+
+	var newEntries, builtEntries float64
+	for _, en := range con.Entrances {
+		if en.Built {
+			builtEntries++
+		} else {
+			newEntries++
+		}
+	}
+	cords := 0.0
+	for _, l := range r.Legs {
+		if l.Feasible {
+			cords += 2
+		}
+	}
+	want := map[string]float64{ // item prefix → quantity the plan needs
+		"building entrance: penetration":            newEntries,
+		"building entrance already there":           builtEntries,
+		"building entrance for a duct added beside": float64(con.AddedDuctWalls),
+		"patch cord ": cords,
+	}
+	got := map[string]float64{}
+	var priced int64
+	for _, l := range b.Lines {
+		for prefix := range want {
+			if strings.HasPrefix(l.Item, prefix) {
+				got[prefix] += l.Quantity
+				if !l.NotPriced || l.ExtendedCents != 0 {
+					t.Errorf("%s: not priced %v, extended %d", l.Item, l.NotPriced, l.ExtendedCents)
+				}
+			}
+		}
+		if !l.NotPriced {
+			priced += l.ExtendedCents
+		} else if !strings.Contains(l.NotPricedText(), "not priced") {
+			t.Errorf("%s: text %q", l.Item, l.NotPricedText())
+		}
+	}
+	for prefix, n := range want {
+		if got[prefix] != n {
+			t.Errorf("%q: quantity %g in the bill, the plan needs %g", prefix, got[prefix], n)
+		}
+	}
+	if newEntries+builtEntries == 0 || cords == 0 {
+		t.Fatalf("the demo uses %g entrances and %g patch cords: nothing to test", newEntries+builtEntries, cords)
+	}
+	if priced != b.SubtotalCents {
+		t.Errorf("priced lines sum to %d, subtotal %d", priced, b.SubtotalCents)
+	}
+
+	files, err := Files(context.Background(), r, WriteOptions{SkipWorkbook: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	rows := testplan.ReadCSV(t, testplan.FileOf(t, files, "bom.csv"))
+	n := 0
+	for _, row := range rows[1:] {
+		if strings.HasPrefix(row[4], "not priced (no ") {
+			n++
+			if row[5] != "" || row[3] == "" || row[3] == "0" {
+				t.Errorf("bom.csv row %q: want a quantity and no extended price", row)
+			}
+		}
+	}
+	lines := 0
+	for _, l := range b.Lines {
+		if l.NotPriced {
+			lines++
+		}
+	}
+	if n != lines || n < 3 {
+		t.Errorf("bom.csv: %d rows not priced, the bill %d; want one per line and at least 3 (new entrance, firestop, patch cords)", n, lines)
+	}
+	// summary.json names the keys, in bill order (material first), for programs; the report
+	// and a sweep's comparison print Summary.NotPricedNote.
+	sum := Summarize(r)
+	if want := []string{"patch_cords_each", "building_entrance_each", "entrance_firestop_each"}; !slices.Equal(sum.NotPriced, want) {
+		t.Errorf("summary not_priced %q, want %q", sum.NotPriced, want)
+	}
+	if !strings.Contains(string(testplan.FileOf(t, files, "summary.json")), `"not_priced": [`) {
+		t.Errorf("summary.json has no not_priced")
+	}
+	if got := Summarize(testplan.DemoResult(t)); got.NotPriced != nil || got.NotPricedNote() != "" {
+		t.Errorf("demo: not priced %q, note %q", got.NotPriced, got.NotPricedNote())
+	}
+	keys := []string{"building_entrance_each", "entrance_firestop_each", "patch_cords_each"}
+	var term bytes.Buffer
+	if err := PrintSummary(&term, r, WriteOptions{}); err != nil {
+		t.Fatal(err)
+	}
+	for _, k := range keys {
+		w := 0
+		for _, x := range r.Warnings {
+			if strings.HasPrefix(x, path+": "+k+": not in the price book, so not priced") {
+				w++
+			}
+		}
+		if w != 1 {
+			t.Errorf("%s: %d warnings, want 1: %q", k, w, r.Warnings)
+		}
+		if !strings.Contains(term.String(), "warning: "+path+": "+k+": not in the price book") {
+			t.Errorf("terminal lacks the warning for %s:\n%s", k, term.String())
+		}
+	}
+	// The demo book prices them all: no line of it is left unpriced.
+	for _, l := range testplan.DemoResult(t).Estimate.BOM.Lines {
+		if l.NotPriced {
+			t.Errorf("demo: %s not priced", l.Item)
+		}
+	}
+}
+
+// notPricedResult plans the demo with a copy of the demo price book without
+// building_entrance_each, entrance_firestop_each and patch_cords_each, and returns the result
+// and the book's path.
+func notPricedResult(t *testing.T) (*route.Result, string) {
+	t.Helper()
+	data, err := os.ReadFile(filepath.Join("..", "..", "media", "prices-demo.yaml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var keep []string
+	skip := false
+	for _, line := range strings.Split(string(data), "\n") {
+		if strings.HasPrefix(line, "building_entrance_each:") || strings.HasPrefix(line, "entrance_firestop_each:") {
+			continue
+		}
+		if strings.HasPrefix(line, "patch_cords_each:") {
+			skip = true
+			continue
+		}
+		if skip && strings.HasPrefix(line, "  ") {
+			continue
+		}
+		skip = false
+		keep = append(keep, line)
+	}
+	path := filepath.Join(t.TempDir(), "prices.yaml")
+	if err := os.WriteFile(path, []byte(strings.Join(keep, "\n")), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	s, p := testsite.Demo(t)
+	q := *p
+	q.Prices = path
+	return testplan.SolvePlan(t, s, &q), path
+}
+
+// TestNotPricedWorkbook reads bom.xlsx of the demo without the optional prices with openpyxl:
+// a line not priced keeps its quantity, has the words in place of the unit price and no
+// extended price, and the total recomputed from the priced lines is the bill's.
+func TestNotPricedWorkbook(t *testing.T) {
+	t.Parallel()
+	py := testplan.Openpyxl(t)
+	r, _ := notPricedResult(t)
+	files, err := Files(context.Background(), r, WriteOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	path := filepath.Join(t.TempDir(), "bom.xlsx")
+	if err := os.WriteFile(path, testplan.FileOf(t, files, "bom.xlsx"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	script := `import sys, openpyxl
+from decimal import Decimal, ROUND_HALF_UP
+ws = openpyxl.load_workbook(sys.argv[1], data_only=True)["bill of materials"]
+total, notpriced, sub = None, 0, Decimal(0)
+for row in ws.iter_rows(min_row=2, values_only=True):
+    a, d, e, f = row[0], row[3], row[4], row[5]
+    if a in ("material", "labour", "construction", "optics", "bid items"):
+        if isinstance(e, str) and e.startswith("not priced (no "):
+            assert d and d > 0 and f is None, row
+            notpriced += 1
+        else:
+            sub += Decimal(repr(f))
+    elif a == "subtotal" and row[1] == "all categories":
+        total = Decimal(repr(f))
+print(notpriced, int(sub * 100), int(total * 100))
+`
+	out, err := exec.Command(py, "-c", script, path).CombinedOutput()
+	if err != nil {
+		t.Fatalf("openpyxl: %v\n%s", err, out)
+	}
+	b := r.Estimate.BOM
+	n := 0
+	for _, l := range b.Lines {
+		if l.NotPriced {
+			n++
+		}
+	}
+	if want := fmt.Sprintf("%d %d %d\n", n, b.SubtotalCents, b.SubtotalCents); string(out) != want {
+		t.Errorf("openpyxl read %q, want %q (lines not priced, priced lines' sum, subtotal in cents)", out, want)
+	}
+}
+
+// TestPricedNoteInBill: a plan with infeasible legs says in bom.csv and bom.xlsx, after the
+// total, the sentence the terminal and the report print beside it (Summary.PricedNote), so
+// an estimator handed the bill alone knows what it leaves out (tester 5, finding 9).
+func TestPricedNoteInBill(t *testing.T) {
+	t.Parallel()
+	r := testplan.DemoResult(t)
+	for _, i := range []int{1, 3} {
+		r.Legs[i].Feasible, r.Legs[i].Reason = false, "made infeasible by the test"
+	}
+	note := Summarize(r).PricedNote()
+	if note == "" || PricedNoteOf(r) != note {
+		t.Fatalf("note %q, PricedNoteOf %q", note, PricedNoteOf(r))
+	}
+	files, err := Files(context.Background(), r, WriteOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	rows := testplan.ReadCSV(t, testplan.FileOf(t, files, "bom.csv"))
+	if last := rows[len(rows)-1]; last[0] != rowNote || last[1] != note || rows[len(rows)-2][0] != rowTotal {
+		t.Errorf("bom.csv ends %q, want the total then %q", rows[len(rows)-2:], note)
+	}
+	var term bytes.Buffer
+	if err := PrintSummary(&term, r, WriteOptions{}); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(term.String(), "warning: "+note+"\n") {
+		t.Errorf("terminal lacks %q:\n%s", note, term.String())
+	}
+	py := testplan.Openpyxl(t)
+	path := filepath.Join(t.TempDir(), "bom.xlsx")
+	if err := os.WriteFile(path, testplan.FileOf(t, files, "bom.xlsx"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	script := `import sys, openpyxl
+wb = openpyxl.load_workbook(sys.argv[1])
+for name in ("bill of materials", "summary"):
+    rows = [r for r in wb[name].iter_rows(values_only=True) if r and r[0] is not None]
+    i = [r[0] for r in rows].index("note")
+    print(rows[i - 1][0], "|", rows[i][1])
+`
+	out, err := exec.Command(py, "-c", script, path).CombinedOutput()
+	if err != nil {
+		t.Fatalf("openpyxl: %v\n%s", err, out)
+	}
+	if want := "total | " + note + "\ntotal | " + note + "\n"; string(out) != want {
+		t.Errorf("bom.xlsx: got\n%s\nwant\n%s", out, want)
+	}
+}
