@@ -270,7 +270,11 @@ func planLayers(ctx context.Context, r *route.Result) ([]gpkgout.Layer, error) {
 		if method != geo.MethodBore {
 			surface = items.SurfaceOf(r.Design(), &sp)
 		}
-		add(LayerConstruction, sp.Line, sp.ID, sp.PathwayID, w.kind, method, surface, round1(sp.LengthM), w.added, nil)
+		listed, ok := r.Estimate.Construction.ListedM(sp.ID) // apportioned: the pieces add up to the bill's lines
+		if !ok {
+			return nil, fmt.Errorf("span %s of the new construction: not in the estimate's pieces", w.span)
+		}
+		add(LayerConstruction, sp.Line, sp.ID, sp.PathwayID, w.kind, method, surface, listed, w.added, nil)
 	}
 	// Counted laterals the plan builds to the entrances it uses, as the estimate counts them.
 	for _, en := range r.Estimate.Construction.Entrances {
@@ -289,7 +293,11 @@ func planLayers(ctx context.Context, r *route.Result) ([]gpkgout.Layer, error) {
 		if method != geo.MethodBore {
 			surface = items.SurfaceOf(r.Design(), lat)
 		}
-		add(LayerConstruction, line, nil, nil, WorkLateral, method, surface, round1(en.LateralM), 0, en.Entrance)
+		listed, ok := r.Estimate.Construction.LateralListedM(en.Building, en.Entrance)
+		if !ok {
+			return nil, fmt.Errorf("lateral to entrance %s of building %s: not in the estimate's pieces", en.Entrance, en.Building)
+		}
+		add(LayerConstruction, line, nil, nil, WorkLateral, method, surface, listed, 0, en.Entrance)
 	}
 
 	// Handholes the plan adds: where routes join or turn, then the pulling plan's.

@@ -48,6 +48,25 @@ func TestSummaryFiguresOnce(t *testing.T) {
 	if dm := testplan.BOMQty(r.Estimate.BOM, "added duct"); s.AddedDuctM != dm || dm == 0 {
 		t.Errorf("added_duct_m %v, want the bill's added duct, %v m", s.AddedDuctM, dm)
 	}
+	// New work: the pieces plan.gpkg lists, the bill's trench and bore lines and the laterals
+	// add up to the totals stated (tester 5, finding 16).
+	var lines, pieces, laterals float64
+	for _, l := range r.Estimate.BOM.Lines {
+		if l.Price.Item == media.PriceTrench || l.Price.Item == media.PriceBore {
+			lines += l.Quantity
+		}
+	}
+	con := r.Estimate.Construction
+	for _, w := range con.Pieces {
+		pieces += w.ListedM
+		if w.Span == "" {
+			laterals += w.ListedM
+		}
+	}
+	if round1(lines) != s.NewTrenchM || round1(pieces) != s.NewTrenchM || round1(laterals) != con.LateralM || laterals == 0 {
+		t.Errorf("new_trench_m %v; bill's trench and bore lines %v, pieces listed %v; laterals listed %v, stated %v",
+			s.NewTrenchM, lines, pieces, laterals, con.LateralM)
+	}
 	var term bytes.Buffer
 	if err := PrintSummary(&term, r, WriteOptions{}); err != nil {
 		t.Fatal(err)
