@@ -371,7 +371,13 @@ func planLayers(ctx context.Context, r *route.Result) ([]gpkgout.Layer, error) {
 			at = j.Point
 		}
 		links := entLinks[ent{e.Building, e.ID}]
-		add(LayerEntrances, at, e.ID, e.Building, e.Via, round1(e.LateralM), len(links) > 0, ListText(links))
+		lateralM := round1(e.LateralM)
+		if r.Estimate != nil { // a counted lateral the plan builds: as new_construction lists it
+			if m, ok := r.Estimate.Construction.LateralListedM(e.Building, e.ID); ok {
+				lateralM = m
+			}
+		}
+		add(LayerEntrances, at, e.ID, e.Building, e.Via, lateralM, len(links) > 0, ListText(links))
 	}
 	if err := ctx.Err(); err != nil {
 		return nil, err
