@@ -178,8 +178,12 @@ type Construction struct {
 	LateralM float64
 	// Pieces are the pieces of new work in the order counted: opened spans, counted laterals,
 	// trenches beside existing ducts.
-	Pieces     []WorkPiece
-	AddedDuctM float64 // duct metres added: new duct in opened duct spans plus added ducts
+	Pieces []WorkPiece
+	// pieceOfSpan and pieceOfLateral index Pieces by span, and by building and entrance
+	// (listPieces): read-only once built, as the writers run side by side.
+	pieceOfSpan    map[string]int
+	pieceOfLateral map[[2]string]int
+	AddedDuctM     float64 // duct metres added: new duct in opened duct spans plus added ducts
 	// AddedDuctWalls is the building walls that ducts added beside full ones enter where the
 	// full ducts already do: each takes a penetration of its own (items.AddedDuctWalls).
 	AddedDuctWalls int
@@ -982,7 +986,9 @@ func (c *Construction) listPieces() {
 			order[k] = k
 		}
 		sort.SliceStable(order, func(a, b int) bool { return rest[order[a]] > rest[order[b]] })
-		for k := 0; left > 0 && k < len(order); k++ { // 0 <= left <= len(idx): see above
+		// The floors add up to at most the line's decimetres, and those to less than the
+		// floors plus one per piece: 0 <= left <= len(idx).
+		for k := 0; left > 0 && k < len(order); k++ {
 			dm[order[k]]++
 			left--
 		}
@@ -999,10 +1005,14 @@ func (c *Construction) listPieces() {
 			c.TrenchM[l] = float64(lineDM) / 10
 		}
 	}
-	for _, w := range c.Pieces {
+	c.pieceOfSpan, c.pieceOfLateral = map[string]int{}, map[[2]string]int{}
+	for i, w := range c.Pieces {
 		c.NewM += w.ListedM
 		if w.Span == "" {
 			c.LateralM += w.ListedM
+			c.pieceOfLateral[[2]string{w.Building, w.Entrance}] = i
+		} else {
+			c.pieceOfSpan[w.Span] = i
 		}
 		if w.assumed {
 			c.Assumed = append(c.Assumed, AssumedWork{From: w.source, LengthM: w.ListedM, Lateral: w.Span == ""})
@@ -1014,22 +1024,20 @@ func (c *Construction) listPieces() {
 // ListedM is the listed metres (WorkPiece.ListedM) of the new work along span id (opened, or
 // a trench beside it for added ducts); false when the plan builds none there.
 func (c *Construction) ListedM(span string) (float64, bool) {
-	for _, w := range c.Pieces {
-		if w.Span == span {
-			return w.ListedM, true
-		}
+	i, ok := c.pieceOfSpan[span]
+	if !ok {
+		return 0, false
 	}
-	return 0, false
+	return c.Pieces[i].ListedM, true
 }
 
 // LateralListedM is ListedM of the counted lateral to a building's entrance.
 func (c *Construction) LateralListedM(building, entrance string) (float64, bool) {
-	for _, w := range c.Pieces {
-		if w.Span == "" && w.Building == building && w.Entrance == entrance {
-			return w.ListedM, true
-		}
+	i, ok := c.pieceOfLateral[[2]string{building, entrance}]
+	if !ok {
+		return 0, false
 	}
-	return 0, false
+	return c.Pieces[i].ListedM, true
 }
 
 // construction totals the new civil work: opened spans (trench and restoration on their
