@@ -250,6 +250,22 @@ func modelGap(t *testing.T, r *route.Result) (billOnly, modelOnly int64) {
 			}
 		}
 	}
+	// New civil work on the metres the bill lists, each piece to 0.1 m so that the pieces add
+	// up to their lines (estimate.listPieces): its trench or bore and restoration, and the bid
+	// items per metre of new buried work. The model prices each piece's own length.
+	var listedM, lengthM float64
+	for _, w := range r.Estimate.Construction.Pieces {
+		listedM += w.ListedM
+		lengthM += w.LengthM
+		for _, q := range items.NewWork(r.Plan.Design, &geo.Span{Type: geo.TypeDuct, Surface: w.Surface}, w.Method, 1) {
+			billOnly += int64(math.Round(float64(p.Cents(q)) * (w.ListedM - w.LengthM)))
+		}
+	}
+	for _, q := range items.BidPer(p, media.BidBases{NewBuriedM: 1}) {
+		if q.Unit != media.UnitEach {
+			billOnly += int64(math.Round(float64(p.Cents(q)) * (listedM - lengthM)))
+		}
+	}
 	return billOnly, modelOnly
 }
 
@@ -333,7 +349,7 @@ func oneCostModel(t *testing.T, name string, r *route.Result) {
 	modelItems := 5*crossed + 4*len(r.Legs) + 5*len(r.Opened)
 	bound := 0.5 * float64(modelItems+nItems)
 	got, want := model, items-billOnly+modelOnly
-	t.Logf("%s: objective %s, route-independent %s, model's route part %s; bill's route items %s (lines %s), bill-only (whole-metre cable, loops where routes turn) %s, model-only %s; %d legs, %d spans opened, %d built to size",
+	t.Logf("%s: objective %s, route-independent %s, model's route part %s; bill's route items %s (lines %s), bill-only (whole-metre cable, loops where routes turn, new work as listed to 0.1 m) %s, model-only %s; %d legs, %d spans opened, %d built to size",
 		name, media.FormatCents(r.ObjectiveCents), media.FormatCents(r.ObjectiveCents-model), media.FormatCents(model),
 		media.FormatCents(items), media.FormatCents(lines), media.FormatCents(billOnly), media.FormatCents(modelOnly), len(r.Legs), len(r.Opened),
 		len(r.Estimate.Construction.SizedDucts))

@@ -162,15 +162,28 @@ type Connectivity struct {
 
 // Construction is the new civil work of a plan, in metres and counts.
 type Construction struct {
-	TrenchM map[string]float64 // new trench by surface: opened spans and trenches for added ducts
-	BoreM   float64            // the same built by directional bore (pathways with method bore)
-	// NewM is all new civil work in metres, trenched or bored: the sum of TrenchM and BoreM,
-	// computed once here and printed from here everywhere (summary, terminal, report, sweeps).
+	// TrenchM is the new trench by surface (opened spans and trenches for added ducts), BoreM
+	// the same built by directional bore (pathways with method bore): each the bill's line,
+	// its pieces' metres added up and rounded to 0.1 m (listPieces).
+	TrenchM map[string]float64
+	BoreM   float64
+	// NewM is all new civil work in metres, trenched or bored: the sum of the bill's trench
+	// and bore lines (TrenchM and BoreM, each to 0.1 m as the bill rounds a line), which the
+	// Pieces' ListedM add up to (listPieces); computed once here and printed from here
+	// everywhere (summary, terminal, report, sweeps).
 	NewM float64
 	// LateralM is the part of NewM that is building laterals counted as new construction
-	// (Entrances with a LateralM): built whether or not the plan may open new spans.
-	LateralM   float64
-	AddedDuctM float64 // duct metres added: new duct in opened duct spans plus added ducts
+	// (Entrances with a LateralM): built whether or not the plan may open new spans; the
+	// laterals' ListedM added up.
+	LateralM float64
+	// Pieces are the pieces of new work in the order counted: opened spans, counted laterals,
+	// trenches beside existing ducts.
+	Pieces []WorkPiece
+	// pieceOfSpan and pieceOfLateral index Pieces by span, and by building and entrance
+	// (listPieces): read-only once built, as the writers run side by side.
+	pieceOfSpan    map[string]int
+	pieceOfLateral map[[2]string]int
+	AddedDuctM     float64 // duct metres added: new duct in opened duct spans plus added ducts
 	// AddedDuctWalls is the building walls that ducts added beside full ones enter where the
 	// full ducts already do: each takes a penetration of its own (items.AddedDuctWalls).
 	AddedDuctWalls int
@@ -193,8 +206,8 @@ type Construction struct {
 	TapJunctions []string
 	// Assumed is the new trench priced on the design's assumed_surface because the campus
 	// gives its pathway no surface (items.SurfaceAssumed), in the order it is counted: opened
-	// spans, counted laterals, trenches beside existing ducts. Its surface is TrenchM's key
-	// AssumedSurface.
+	// spans, counted laterals, trenches beside existing ducts, each of its Pieces' ListedM.
+	// Its surface is TrenchM's key AssumedSurface.
 	Assumed        []AssumedWork
 	AssumedSurface string
 	// SizedDucts are the opened duct spans built to size: those whose cables need more ducts
@@ -901,20 +914,143 @@ func (r *run) connectivity() {
 
 // newWork counts new work along a span built by method (items.MethodOf): bored, or trenched
 // on its surface (items.SurfaceOf, noting an assumed one); from records the span under its
-// line.
-func (c *Construction) newWork(d plan.Design, sp *geo.Span, method string, from map[string][]string, source string) {
+// line. A counted lateral is the span sp with no ID, of building and entrance en.
+func (c *Construction) newWork(d plan.Design, sp *geo.Span, method string, from map[string][]string, source string, en routing.EntranceUse) {
+	w := WorkPiece{Span: sp.ID, Method: method, LengthM: sp.LengthM, source: source}
+	if sp.ID == "" {
+		w.Building, w.Entrance = en.Building, en.Entrance
+	}
 	if method == geo.MethodBore {
 		c.BoreM += sp.LengthM
 		from[keyBore] = append(from[keyBore], source)
+		w.line = keyBore
+		c.Pieces = append(c.Pieces, w)
 		return
 	}
 	sf := items.SurfaceOf(d, sp)
 	c.TrenchM[sf] += sp.LengthM
 	from[sf] = append(from[sf], source)
+	w.Surface, w.line = sf, sf
 	if items.SurfaceAssumed(sp, method) {
-		c.Assumed = append(c.Assumed, AssumedWork{From: source, LengthM: sp.LengthM, Lateral: sp.ID == ""})
+		w.assumed = true
 		c.AssumedSurface = sf
 	}
+	c.Pieces = append(c.Pieces, w)
+}
+
+// WorkPiece is one piece of new civil work: an opened span, the trench beside a span for
+// added ducts, or a counted lateral.
+type WorkPiece struct {
+	Span               string // the span; "" for a lateral
+	Building, Entrance string // a counted lateral's building and entrance; "" for a span
+	Method             string // geo.MethodBore, else trenched
+	Surface            string // a trench's surface (items.SurfaceOf); "" for a bore
+	LengthM            float64
+	// ListedM is LengthM to 0.1 m as every output lists the piece (plan.gpkg's
+	// new_construction, the report's work on an assumed surface), apportioned so that the
+	// pieces of one bill line (a trench surface, the bore) add up to that line's metres, as
+	// the bill rounds them: see listPieces.
+	ListedM float64
+
+	source  string // the bill's from text
+	line    string // the bill line: the surface, or keyBore
+	assumed bool   // priced on design.assumed_surface (items.SurfaceAssumed)
+}
+
+// listPieces sets each piece's ListedM and the totals the outputs print from them: NewM,
+// LateralM and Assumed. Rounding each piece and each total on its own gave totals that
+// their listed parts do not add up to (laterals of 17.0, 17.1 and 12.0 m under "46.2 m of
+// it building laterals"; a bill of 6291.1 m of trench and 1501.3 m of bore under 7792.3 m
+// of new trench: tester 5, finding 16). So the pieces of each bill line get decimetres by
+// the largest-remainder method (Hamilton's apportionment: each piece its length rounded down
+// to 0.1 m, then the decimetres the line still lacks to the pieces with the largest
+// remainders, ties to the earlier piece) adding up to the line as the bill rounds it
+// (media.BOM: the line's metres to 0.1 m); each piece stays within 0.1 m of its length.
+// TrenchM and BoreM become those lines (the metres the bill prices are unchanged: it rounded
+// each line to 0.1 m before), NewM their sum, and what is listed adds up to them. With
+// --units imperial every one of these converts the same 0.1 m figures to feet.
+func (c *Construction) listPieces() {
+	byLine := map[string][]int{}
+	var lines []string // in order of first piece
+	for i, w := range c.Pieces {
+		if _, seen := byLine[w.line]; !seen {
+			lines = append(lines, w.line)
+		}
+		byLine[w.line] = append(byLine[w.line], i)
+	}
+	c.NewM, c.LateralM, c.Assumed = 0, 0, nil
+	for _, l := range lines {
+		total := c.BoreM
+		if l != keyBore {
+			total = c.TrenchM[l]
+		}
+		idx := byLine[l]
+		dm := make([]int64, len(idx))
+		rest := make([]float64, len(idx))
+		left := int64(math.Round(total * 10)) // as media.BOM rounds a line of metres
+		for k, i := range idx {
+			x := c.Pieces[i].LengthM * 10
+			dm[k] = int64(math.Floor(x))
+			rest[k] = x - float64(dm[k])
+			left -= dm[k]
+		}
+		order := make([]int, len(idx))
+		for k := range order {
+			order[k] = k
+		}
+		sort.SliceStable(order, func(a, b int) bool { return rest[order[a]] > rest[order[b]] })
+		// The floors add up to at most the line's decimetres, and those to less than the
+		// floors plus one per piece: 0 <= left <= len(idx).
+		for k := 0; left > 0 && k < len(order); k++ {
+			dm[order[k]]++
+			left--
+		}
+		var lineDM int64
+		for k, i := range idx {
+			c.Pieces[i].ListedM = float64(dm[k]) / 10
+			lineDM += dm[k]
+		}
+		// The line itself as billed: its metres to 0.1 m, so that the bill's quantity, and
+		// the feet an imperial bill converts from it, are those of the listed pieces.
+		if l == keyBore {
+			c.BoreM = float64(lineDM) / 10
+		} else {
+			c.TrenchM[l] = float64(lineDM) / 10
+		}
+	}
+	c.pieceOfSpan, c.pieceOfLateral = map[string]int{}, map[[2]string]int{}
+	for i, w := range c.Pieces {
+		c.NewM += w.ListedM
+		if w.Span == "" {
+			c.LateralM += w.ListedM
+			c.pieceOfLateral[[2]string{w.Building, w.Entrance}] = i
+		} else {
+			c.pieceOfSpan[w.Span] = i
+		}
+		if w.assumed {
+			c.Assumed = append(c.Assumed, AssumedWork{From: w.source, LengthM: w.ListedM, Lateral: w.Span == ""})
+		}
+	}
+	c.NewM, c.LateralM = float64(int64(math.Round(c.NewM*10)))/10, float64(int64(math.Round(c.LateralM*10)))/10
+}
+
+// ListedM is the listed metres (WorkPiece.ListedM) of the new work along span id (opened, or
+// a trench beside it for added ducts); false when the plan builds none there.
+func (c *Construction) ListedM(span string) (float64, bool) {
+	i, ok := c.pieceOfSpan[span]
+	if !ok {
+		return 0, false
+	}
+	return c.Pieces[i].ListedM, true
+}
+
+// LateralListedM is ListedM of the counted lateral to a building's entrance.
+func (c *Construction) LateralListedM(building, entrance string) (float64, bool) {
+	i, ok := c.pieceOfLateral[[2]string{building, entrance}]
+	if !ok {
+		return 0, false
+	}
+	return c.Pieces[i].ListedM, true
 }
 
 // construction totals the new civil work: opened spans (trench and restoration on their
@@ -931,7 +1067,7 @@ func (r *run) construction() {
 	}
 	for _, id := range r.Opened {
 		sp, _ := s.Net.Span(id)
-		c.newWork(design, &sp, items.MethodOf(r.Engine.PriceBook(), design, &sp), r.newFrom, fromSpan(id))
+		c.newWork(design, &sp, items.MethodOf(r.Engine.PriceBook(), design, &sp), r.newFrom, fromSpan(id), routing.EntranceUse{})
 		if sp.Type == geo.TypeDuct {
 			n, own := items.NewDucts(design), r.newDucts[id] // items.Opening, built to size
 			if own > n {
@@ -955,9 +1091,8 @@ func (r *run) construction() {
 			continue
 		}
 		lat := &geo.Span{Type: geo.TypeDuct, LengthM: en.LateralM}
-		c.newWork(design, lat, items.MethodOf(r.Engine.PriceBook(), design, lat), r.newFrom, fromEntrance(en))
+		c.newWork(design, lat, items.MethodOf(r.Engine.PriceBook(), design, lat), r.newFrom, fromEntrance(en), en)
 		c.AddedDuctM += float64(items.NewDucts(design)) * en.LateralM // no duct size: the design's
-		c.LateralM += en.LateralM
 		r.newFrom[keyAddedDuct] = append(r.newFrom[keyAddedDuct], fromEntrance(en))
 	}
 	// The handholes are the routing's (routing.Routed.Handholes): the optimizer's charges it
@@ -979,7 +1114,7 @@ func (r *run) construction() {
 			// A trench beside a full duct, laid with the ducts the optimizer priced
 			// (optimize.Edge.LaidDucts).
 			sp, _ := s.Net.Span(f.Span)
-			c.newWork(design, &sp, items.MethodOf(r.Engine.PriceBook(), design, &sp), r.newFrom, fromSpan(f.Span))
+			c.newWork(design, &sp, items.MethodOf(r.Engine.PriceBook(), design, &sp), r.newFrom, fromSpan(f.Span), routing.EntranceUse{})
 			c.AddedDuctM += float64(f.AddedDucts) * sp.LengthM
 			r.newFrom[keyAddedDuct] = append(r.newFrom[keyAddedDuct], fromSpan(f.Span))
 			if n := items.AddedDuctWalls(builtAt, &sp); n > 0 {
@@ -988,10 +1123,7 @@ func (r *run) construction() {
 			}
 		}
 	}
-	c.NewM = c.BoreM
-	for _, sf := range slices.Sorted(maps.Keys(c.TrenchM)) { // in one order: a float sum depends on it
-		c.NewM += c.TrenchM[sf]
-	}
+	c.listPieces()
 	r.Estimate.Construction = c
 	if w := c.assumedWarning(); w != "" {
 		r.Estimate.Warnings = append(r.Estimate.Warnings, w)

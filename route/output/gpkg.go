@@ -275,7 +275,11 @@ func planLayers(ctx context.Context, r *route.Result) ([]gpkgout.Layer, error) {
 		if method != geo.MethodBore {
 			surface = items.SurfaceOf(r.Design(), &sp)
 		}
-		add(LayerConstruction, sp.Line, sp.ID, sp.PathwayID, w.kind, method, surface, round1(sp.LengthM), w.added, nil)
+		listed, ok := r.Estimate.Construction.ListedM(sp.ID) // apportioned: the pieces add up to the bill's lines
+		if !ok {
+			return nil, fmt.Errorf("span %s of the new construction: not in the estimate's pieces", w.span)
+		}
+		add(LayerConstruction, sp.Line, sp.ID, sp.PathwayID, w.kind, method, surface, listed, w.added, nil)
 	}
 	// Counted laterals the plan builds to the entrances it uses, as the estimate counts them.
 	for _, en := range r.Estimate.Construction.Entrances {
@@ -294,7 +298,11 @@ func planLayers(ctx context.Context, r *route.Result) ([]gpkgout.Layer, error) {
 		if method != geo.MethodBore {
 			surface = items.SurfaceOf(r.Design(), lat)
 		}
-		add(LayerConstruction, line, nil, nil, WorkLateral, method, surface, round1(en.LateralM), 0, en.Entrance)
+		listed, ok := r.Estimate.Construction.LateralListedM(en.Building, en.Entrance)
+		if !ok {
+			return nil, fmt.Errorf("lateral to entrance %s of building %s: not in the estimate's pieces", en.Entrance, en.Building)
+		}
+		add(LayerConstruction, line, nil, nil, WorkLateral, method, surface, listed, 0, en.Entrance)
 	}
 
 	// Handholes the plan adds: where routes join or turn, then the pulling plan's.
@@ -368,7 +376,13 @@ func planLayers(ctx context.Context, r *route.Result) ([]gpkgout.Layer, error) {
 			at = j.Point
 		}
 		links := entLinks[ent{e.Building, e.ID}]
-		add(LayerEntrances, at, e.ID, e.Building, e.Via, round1(e.LateralM), len(links) > 0, ListText(links))
+		lateralM := round1(e.LateralM)
+		if r.Estimate != nil { // a counted lateral the plan builds: as new_construction lists it
+			if m, ok := r.Estimate.Construction.LateralListedM(e.Building, e.ID); ok {
+				lateralM = m
+			}
+		}
+		add(LayerEntrances, at, e.ID, e.Building, e.Via, lateralM, len(links) > 0, ListText(links))
 	}
 	if err := ctx.Err(); err != nil {
 		return nil, err

@@ -392,6 +392,11 @@ type Summary struct {
 	NewTrenchM   float64 `json:"new_trench_m"`    // new civil work, trenched or bored: opened pathways and trenches for added ducts
 	DiverseLinks int     `json:"diverse_links"`   // links with two disjoint feasible legs
 	DiverseShort int     `json:"diverse_missing"` // links that asked for a diverse route and did not get one
+	// DiverseSinglePoint counts, of DiverseLinks, those whose two routes still share a single
+	// point of failure (the only entrance of a building at either end, a junction where their
+	// ducts cross with no structure): reason_code SPOF on the diverse leg
+	// (routing.CodeSharedPt). The terminal and the report print it beside DiverseLinks.
+	DiverseSinglePoint int `json:"diverse_single_point"`
 	// CrossingLegs counts the feasible legs whose route passes through a building (in at one
 	// entrance, out at another); TurnHandholes the junctions, each once, where a feasible
 	// leg turns between pathways at a handhole the plan adds for that alone (one also for new
@@ -402,7 +407,18 @@ type Summary struct {
 	// handhole_spacing_m and pull_bend_deg), and Entrances the building entrances the plan
 	// uses, each priced when the book prices building_entrance_each.
 	RunHandholes int `json:"run_handholes"`
-	Entrances    int `json:"entrances_used"`
+	// JoinHandholes and TapHandholes count the junctions, each once, where the plan adds a
+	// handhole because new pathway joins the network there, or a counted lateral taps a duct
+	// (routing.Handhole.Purpose; a junction is counted under one purpose only).
+	// HandholesToBuild is every handhole the plan adds: TurnHandholes + JoinHandholes +
+	// TapHandholes + RunHandholes + AddedPullPoints, the bill's handhole lines added up.
+	JoinHandholes    int `json:"join_handholes"`
+	TapHandholes     int `json:"tap_handholes"`
+	HandholesToBuild int `json:"handholes_to_build"`
+	Entrances        int `json:"entrances_used"`
+	// AddedDuctM is the duct laid new, in metres: in opened duct spans, in counted laterals and
+	// beside full ducts (estimate.Construction.AddedDuctM), as the bill's added-duct line.
+	AddedDuctM float64 `json:"added_duct_m"`
 	// WorstMarginDB is the smallest loss margin of any feasible fibre leg; null when none.
 	WorstMarginDB *float64       `json:"worst_margin_db"`
 	MediaMix      map[string]int `json:"media_mix"` // feasible legs per medium
@@ -524,6 +540,7 @@ func Summarize(r *route.Result) Summary {
 		s.DemoPrices = DemoPricesWarning
 	}
 	feasibleLegs := map[string]int{}
+	sharedPoint := map[string]bool{} // links whose diverse leg shares a single point of failure
 	for _, l := range r.Legs {
 		s.ModelCents += l.Cost.TotalCents()
 		s.MidSpanSplices += l.Cable.Joins * l.Cable.Cables
@@ -532,6 +549,9 @@ func Summarize(r *route.Result) Summary {
 			continue
 		}
 		feasibleLegs[l.Link.ID]++
+		if l.Name == routing.LegDiverse && l.ReasonCode == routing.CodeSharedPt {
+			sharedPoint[l.Link.ID] = true
+		}
 		if len(l.Crosses) > 0 {
 			s.CrossingLegs++
 		}
@@ -546,7 +566,11 @@ func Summarize(r *route.Result) Summary {
 	if r.Estimate != nil {
 		s.TurnHandholes = len(r.Estimate.Construction.TurnJunctions) // the bill's count, each once
 		s.RunHandholes = len(r.Estimate.Construction.RunHandholes)
+		s.JoinHandholes = len(r.Estimate.Construction.NewJunctions)
+		s.TapHandholes = len(r.Estimate.Construction.TapJunctions)
+		s.HandholesToBuild = s.TurnHandholes + s.JoinHandholes + s.TapHandholes + s.RunHandholes + r.Estimate.AddedPullPoints
 		s.Entrances = len(r.Estimate.Construction.Entrances)
+		s.AddedDuctM = round1(r.Estimate.Construction.AddedDuctM)
 	}
 	s.ObjectiveCents = r.ObjectiveCents
 	s.LowerBoundCents, s.GapPct = BoundGap(r.ObjectiveCents, r.LowerBoundCents)
@@ -586,6 +610,9 @@ func Summarize(r *route.Result) Summary {
 		if l.Diverse {
 			if feasibleLegs[l.ID] == 2 {
 				s.DiverseLinks++
+				if sharedPoint[l.ID] {
+					s.DiverseSinglePoint++
+				}
 			} else {
 				s.DiverseShort++
 			}
@@ -691,6 +718,9 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 		}
 		fmt.Fprintf(w, "cable bought: %s (%s in all, %s)\n", strings.Join(parts, ", "), length(tot.CableM), Counted(s.MidSpanSplices, "mid-span splice", "mid-span splices"))
 	}
+	if line := diverseLine(s); line != "" {
+		fmt.Fprintln(w, line)
+	}
 	if s.CrossingLegs > 0 || s.TurnHandholes > 0 {
 		fmt.Fprintf(w, "legs through a building: %d; handholes to add where a route turns between pathways: %d (see links.csv)\n",
 			s.CrossingLegs, s.TurnHandholes)
@@ -703,8 +733,12 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 		case s.GapPct != nil && *s.GapPct > wideGapPct:
 			closed = " (no plan of these legs costs less than the bound; a gap this wide usually means a weak bound rather than poor routes)"
 		}
-		fmt.Fprintf(w, "optimizer: routes %s by the optimizer's objective, proved lower bound %s, gap %s%s\n",
-			media.FormatCents(s.ObjectiveCents), media.FormatCents(*s.LowerBoundCents), GapText(s.GapPct), closed)
+		cur := ""
+		if s.Currency != "" {
+			cur = " " + t(s.Currency)
+		}
+		fmt.Fprintf(w, "optimizer: routes %s%s by the optimizer's objective, proved lower bound %s%s, gap %s%s\n",
+			media.FormatCents(s.ObjectiveCents), cur, media.FormatCents(*s.LowerBoundCents), cur, GapText(s.GapPct), closed)
 	}
 	e := r.Estimate
 	if e == nil || e.BOM == nil {
@@ -732,9 +766,13 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 	if len(c.TapJunctions) > 0 {
 		taps = fmt.Sprintf(", %d where laterals tap a duct", len(c.TapJunctions))
 	}
-	fmt.Fprintf(w, "construction: new trench %s%s, added duct %s, %s where new pathway joins, %d along new construction%s, %d for added pull points; %s used\n",
-		length(c.NewM), bored, length(c.AddedDuctM), Counted(len(c.NewJunctions), "handhole", "handholes"), len(c.RunHandholes), taps, e.AddedPullPoints,
-		Counted(len(c.Entrances), "building entrance", "building entrances"))
+	turns := ""
+	if s.TurnHandholes > 0 {
+		turns = fmt.Sprintf(", with the %d where routes turn", s.TurnHandholes)
+	}
+	fmt.Fprintf(w, "construction: new trench %s%s, added duct %s, %s where new pathway joins, %d along new construction%s, %d for added pull points (%s to build in all%s); %s used\n",
+		length(c.NewM), bored, length(c.AddedDuctM), Counted(s.JoinHandholes, "handhole", "handholes"), s.RunHandholes, taps, e.AddedPullPoints,
+		Counted(s.HandholesToBuild, "handhole", "handholes"), turns, Counted(len(c.Entrances), "building entrance", "building entrances"))
 	if len(e.Pulls) > 0 {
 		hi := e.Pulls[0]
 		for _, p := range e.Pulls {
@@ -794,6 +832,23 @@ func cautionLine(r *route.Result, bom bool) string {
 	}
 	return fmt.Sprintf("safety: %s for this plan's work: %s; %s say what to do (local codes and the authority having jurisdiction prevail)", Counted(len(r.Cautions), "caution", "cautions"),
 		strings.ToLower(strings.Join(route.CautionTitles(r.Cautions), ", ")), where)
+}
+
+// diverseLine is the terminal's line on the links that asked for a diverse route: how many
+// got two routes, how many of those still share a single point of failure, how many lack
+// one; "" when no link asked.
+func diverseLine(s Summary) string {
+	if s.DiverseLinks+s.DiverseShort == 0 {
+		return ""
+	}
+	line := fmt.Sprintf("diverse links: %d with two routes", s.DiverseLinks)
+	if s.DiverseSinglePoint > 0 {
+		line += fmt.Sprintf(", %d of them sharing a single point of failure (reason_code %s in links.csv)", s.DiverseSinglePoint, routing.CodeSharedPt)
+	}
+	if s.DiverseShort > 0 {
+		line += fmt.Sprintf("; %d lacking a diverse route", s.DiverseShort)
+	}
+	return line
 }
 
 // shownFillSpans is the most spans the terminal's duct fill line names.

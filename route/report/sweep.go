@@ -132,7 +132,7 @@ func sweepViewOf(c *sweep.Comparison, opt SweepOptions) *sweepView {
 	v.Cols = append(v.Cols,
 		sweepCol{"status", false}, sweepCol{"total cost (" + cur + ")", true}, sweepCol{"budget", true},
 		sweepCol{"over budget", true}, sweepCol{"infeasible legs", true}, sweepCol{"worst margin (dB)", true},
-		sweepCol{"new trench (m)", true}, sweepCol{"diverse links", true}, sweepCol{"lacking diverse", true},
+		sweepCol{"new trench (m)", true}, sweepCol{"diverse links", true}, sweepCol{"of them sharing a single point of failure", true}, sweepCol{"lacking diverse", true},
 		sweepCol{"media (legs)", false}, sweepCol{"rank by cost", true}, sweepCol{"Pareto", false},
 		sweepCol{"warnings", true}, sweepCol{"error", false})
 	var cheapest *sweep.Judged
@@ -218,6 +218,10 @@ func sweepRowOf(j *sweep.Judged, keys []string) sweepRow {
 		s := strconv.FormatFloat(j.NewTrenchM, 'f', 1, 64)
 		trench = sweepCell{Text: group(s), Sort: s}
 	}
+	spof := sweepCell{} // blank in rows written before the figure was kept
+	if j.DiverseSinglePoint != nil {
+		spof = intc(*j.DiverseSinglePoint, planned)
+	}
 	pareto := sweepCell{}
 	if j.Status == sweep.StatusOK {
 		pareto = text("no")
@@ -227,7 +231,7 @@ func sweepRowOf(j *sweep.Judged, keys []string) sweepRow {
 	}
 	row.Cells = append(row.Cells, text(j.Status), moneyc(j.TotalCents, planned), budget,
 		over, intc(j.InfeasibleLegs, planned), margin, trench,
-		intc(j.DiverseLinks, planned), intc(j.DiverseMissing, planned), text(j.MediaMix),
+		intc(j.DiverseLinks, planned), spof, intc(j.DiverseMissing, planned), text(j.MediaMix),
 		intc(j.Rank, j.Rank > 0), pareto, intc(j.Warnings, planned), text(j.Error))
 	return row
 }

@@ -220,6 +220,19 @@ var fixedColumns = []column{
 			return workbook.Number(j.NewTrenchM, 1)
 		}, nil},
 	intCol("diverse_links", "diverse links", func(r *Row) int { return r.DiverseLinks }),
+	{"diverse_single_point", "diverse links sharing a single point of failure", "",
+		func(j judged) string {
+			if !planned(j) || j.DiverseSinglePoint == nil {
+				return ""
+			}
+			return strconv.Itoa(*j.DiverseSinglePoint)
+		},
+		func(j judged) workbook.Cell {
+			if !planned(j) || j.DiverseSinglePoint == nil {
+				return workbook.Blank()
+			}
+			return workbook.Int(int64(*j.DiverseSinglePoint))
+		}, nil},
 	intCol("diverse_missing", "links lacking a diverse route", func(r *Row) int { return r.DiverseMissing }),
 	textCol("media_mix", "media (legs per medium)", func(j judged) string { return j.MediaMix }),
 	{"cost_rank", "rank by cost", "",
@@ -310,7 +323,8 @@ func currencyOf(rows []Row) string {
 // (ok, infeasible, failed), currency, total_cost, plan_budget and over_budget (currency units
 // with two decimals; budget columns empty without a budget), infeasible_legs,
 // worst_margin_db (two decimals, empty without fibre legs), new_trench_m (one decimal),
-// diverse_links, diverse_missing, media_mix ("medium:legs" pairs), cost_rank, pareto
+// diverse_links, diverse_single_point (of them, those whose two routes share a single point
+// of failure), diverse_missing, media_mix ("medium:legs" pairs), cost_rank, pareto
 // (yes/no), warnings, error, note, then objective and lower_bound (currency units, empty
 // without a bound) and gap_pct (the gap to the bound in percent, four decimals; empty
 // without a bound). compare.xlsx holds the same table, numbers as numbers, with a

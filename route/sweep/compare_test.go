@@ -114,6 +114,7 @@ func TestCompareMarkdown(t *testing.T) {
 	t.Parallel()
 	rows := []Row{
 		{Index: 0, ID: "a-1", Set: [][2]string{{"hub", "A|B"}}, Status: StatusOK, Currency: "EUR", TotalCents: 150, BudgetCents: ip(100), OverBudgetCents: ip(50), WorstMarginDB: fp(1.234), MediaMix: "os2:2",
+			DiverseLinks: 2, DiverseSinglePoint: func() *int { n := 1; return &n }(), // one of two shares a point (tester 5, finding 10)
 			ObjectiveCents: 120, LowerBoundCents: ip(100), GapPct: fp(4.4158)},
 		{Index: 1, ID: "b-2", Case: "b", Status: StatusFailed, Error: "b-2/plan.yaml: hub: bad\nsecond line"},
 	}
@@ -133,7 +134,7 @@ func TestCompareMarkdown(t *testing.T) {
 	for _, want := range []string{
 		"2 scenarios: 1 ok, 0 with infeasible legs, 1 failed. Money in EUR.",
 		"Pareto optimal: `a-1`.",
-		"| 0 | `a-1` |  | A\\|B | ok | 1.50 | 1.00 | 0.50 | 0 | 1.23 | 0.0 | 0 | 0 | os2:2 | 1 | yes | 0 |",
+		"| 0 | `a-1` |  | A\\|B | ok | 1.50 | 1.00 | 0.50 | 0 | 1.23 | 0.0 | 2 | 1 | 0 | os2:2 | 1 | yes | 0 |",
 		"- `b-2`: b-2/plan.yaml: hub: bad; second line",
 		"| total cost (EUR) |",
 	} {
@@ -145,7 +146,7 @@ func TestCompareMarkdown(t *testing.T) {
 	// the gap in percent, as summary.json has it in compare.csv (four decimals) and as the
 	// terminal prints it in compare.md (output.PctText).
 	if !strings.Contains(csvText, ",objective,lower_bound,gap_pct\n") ||
-		!strings.Contains(csvText, "0,a-1,,A|B,ok,EUR,1.50,1.00,0.50,0,1.23,0.0,0,0,os2:2,1,yes,0,,,1.20,1.00,4.4158\n") {
+		!strings.Contains(csvText, "0,a-1,,A|B,ok,EUR,1.50,1.00,0.50,0,1.23,0.0,2,1,0,os2:2,1,yes,0,,,1.20,1.00,4.4158\n") {
 		t.Errorf("compare.csv:\n%s", csvText)
 	}
 	if !strings.Contains(md, "| optimizer objective (EUR) | proved lower bound (EUR) | gap to the bound (%) |") ||
@@ -218,7 +219,7 @@ func TestComparePayloads(t *testing.T) {
 			if rec[1] != p.csv || rec[2] != p.csv || rec[3] != p.csv {
 				t.Errorf("%s: compare.csv id, case, hub: got %q, want %q each", p.name, rec[1:4], p.csv)
 			}
-			if got := rec[len(rec)-13]; got != "-1.50" {
+			if got := rec[len(rec)-14]; got != "-1.50" {
 				t.Errorf("%s: compare.csv worst margin: got %q, want the number -1.50", p.name, got)
 			}
 			line := table[i+2]

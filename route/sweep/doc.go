@@ -27,7 +27,8 @@
 // axis) and key; every problem is reported at once. Values of the right type that the plan rejects (an unknown hub, a
 // rate no application runs at, a price book that is not there) are found with
 // Options.Preflight, which the command sets, before anything is planned or written: every
-// scenario's plan, files, campus, engine and route.Check, every problem at once, each at the
+// scenario's plan, files, campus, engine and route.Check, and that every price book is in
+// one currency (the comparison ranks totals), every problem at once, each at the
 // value's place in the sweep file (see preflight); without it they fail only their scenario.
 //
 // # Scenarios

@@ -5,9 +5,11 @@ import (
 	"errors"
 	"fmt"
 	"path/filepath"
+	"slices"
 	"strings"
 
 	"spanwright/geo/input"
+	"spanwright/media"
 	"spanwright/route"
 	"spanwright/route/plan"
 )
@@ -47,11 +49,16 @@ func (r *runner) preflight(ctx context.Context, list []Scenario) error {
 	}
 	var byText []*shared
 	index := map[string]*shared{}
+	var books []*media.PriceBook // every price book the scenarios use, once each, in sweep order
 	for _, sc := range list {
 		if err := ctx.Err(); err != nil {
 			return fmt.Errorf("sweep stopped while checking its scenarios, before any was planned: %w", err)
 		}
-		for _, p := range r.checkScenario(sc) {
+		probs, book := r.checkScenario(sc)
+		if book != nil && !slices.ContainsFunc(books, func(b *media.PriceBook) bool { return b.File == book.File }) {
+			books = append(books, book)
+		}
+		for _, p := range probs {
 			if p.File == r.f.Path {
 				add(p) // at an override: its place names the axis or case
 				continue
@@ -85,20 +92,56 @@ func (r *runner) preflight(ctx context.Context, list []Scenario) error {
 		}
 		add(sh.p)
 	}
+	for _, p := range mixedCurrencies(books) {
+		add(p)
+	}
 	out.Sort()
 	return out.Err()
 }
 
-// checkScenario returns the problems of one scenario's inputs, placed as preflight says.
-func (r *runner) checkScenario(sc Scenario) []*input.Problem {
+// mixedCurrencies returns, when the price books of a sweep are not all in one currency, one
+// problem per book naming its currency and every other book's: the comparison ranks total
+// costs against one another, and a total in USD is not cheaper than one in EUR because its
+// number is smaller. nil when they agree.
+func mixedCurrencies(books []*media.PriceBook) []*input.Problem {
+	var curs []string // in order of first use
+	byCur := map[string][]string{}
+	for _, b := range books {
+		if _, seen := byCur[b.Currency]; !seen {
+			curs = append(curs, b.Currency)
+		}
+		byCur[b.Currency] = append(byCur[b.Currency], filepath.ToSlash(b.File))
+	}
+	if len(curs) < 2 {
+		return nil
+	}
+	var out []*input.Problem
+	for _, b := range books {
+		var others []string
+		for _, c := range curs {
+			if c == b.Currency {
+				continue
+			}
+			others = append(others, strings.Join(byCur[c], ", ")+" in "+c)
+		}
+		out = append(out, &input.Problem{File: b.File, Key: "currency", Err: input.Errorf(input.ErrBadValue,
+			"this price book is in %s, but the sweep also prices with %s; a sweep ranks total costs against one another, so every price book it uses must be in one currency: convert the amounts, or sweep each currency on its own",
+			b.Currency, strings.Join(others, "; "))})
+	}
+	return out
+}
+
+// checkScenario returns the problems of one scenario's inputs, placed as preflight says, and
+// the price book its engine reads (nil when the engine could not be built).
+func (r *runner) checkScenario(sc Scenario) ([]*input.Problem, *media.PriceBook) {
 	planPath := filepath.Join(r.out, sc.ID, PlanFile)
 	data, err := r.planYAML(sc)
 	if err != nil {
-		return []*input.Problem{{File: r.f.Path, Item: "scenario " + sc.ID, Err: err}}
+		return []*input.Problem{{File: r.f.Path, Item: "scenario " + sc.ID, Err: err}}, nil
 	}
 	p, err := plan.ParsePlanOptions(planPath, data, plan.LoadOptions{CampusDatabase: r.opt.CampusDatabase})
 	if err != nil {
-		return r.blame(sc, planPath, "", err)
+		return r.blame(sc, planPath, "", err), nil
 	}
 	p.MaxInputBytes = r.f.MaxInputBytes
 	var probs []*input.Problem
@@ -118,7 +161,7 @@ func (r *runner) checkScenario(sc Scenario) []*input.Problem {
 		}
 	}
 	if len(probs) > 0 {
-		return probs // the loaders would only say it again
+		return probs, nil // the loaders would only say it again
 	}
 	site, err := r.site(p)
 	if err != nil {
@@ -128,10 +171,13 @@ func (r *runner) checkScenario(sc Scenario) []*input.Problem {
 	if err != nil {
 		probs = append(probs, r.blame(sc, planPath, "", err)...)
 	}
-	if len(probs) > 0 {
-		return probs
+	if err != nil {
+		return probs, nil
 	}
-	return r.blame(sc, planPath, "", route.Check(site, p, eng))
+	if len(probs) > 0 {
+		return probs, eng.PriceBook()
+	}
+	return r.blame(sc, planPath, "", route.Check(site, p, eng)), eng.PriceBook()
 }
 
 // blame places the problems of err, found in scenario sc's plan (at planPath), as preflight

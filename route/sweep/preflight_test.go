@@ -112,3 +112,53 @@ func TestPreflightNamesScenario(t *testing.T) {
 		}
 	}
 }
+
+// TestPreflightMixedCurrencies: a sweep whose price books are in different currencies is
+// refused before anything is planned, one problem per book naming its currency and the other
+// books', since the comparison would rank a total in EUR against one in USD by its number
+// (tester 5, finding 2). The same books in one currency plan.
+func TestPreflightMixedCurrencies(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	low, err := os.ReadFile(filepath.Join(fixtures, "prices-low.yaml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	eur := filepath.Join(dir, "prices-eur.yaml")
+	if err := os.WriteFile(eur, []byte(strings.Replace(string(low), "currency: USD", "currency: EUR", 1)), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	f := parseInline(t, "vary:\n  prices: [prices-low.yaml, prices-high.yaml, "+eur+"]")
+	out := filepath.Join(t.TempDir(), "out")
+	_, err = Run(context.Background(), f, Options{Out: out, Preflight: true})
+	if !errors.Is(err, ErrInvalid) {
+		t.Fatalf("got %v, want the sweep refused as invalid", err)
+	}
+	lowPath, _ := filepath.Abs(filepath.Join(fixtures, "prices-low.yaml")) // the plan names its files absolute
+	highPath, _ := filepath.Abs(filepath.Join(fixtures, "prices-high.yaml"))
+	lines := strings.Split(err.Error(), "\n")
+	if len(lines) != 3 {
+		t.Fatalf("got %d problems, want one per price book:\n%s", len(lines), err)
+	}
+	for _, want := range []struct{ file, cur, other string }{
+		{lowPath, "USD", eur + " in EUR"},
+		{highPath, "USD", eur + " in EUR"},
+		{eur, "EUR", lowPath + ", " + highPath + " in USD"},
+	} {
+		found := false
+		for _, l := range lines {
+			if strings.HasPrefix(l, want.file+": currency: this price book is in "+want.cur+", but the sweep also prices with "+want.other+";") {
+				found = true
+			}
+		}
+		if !found {
+			t.Errorf("no problem of %s in %s naming %s:\n%s", want.file, want.cur, want.other, err)
+		}
+	}
+	if _, err := os.Stat(out); !errors.Is(err, os.ErrNotExist) {
+		t.Errorf("the refused sweep made its output folder (%v)", err)
+	}
+	if p := mixedCurrencies(nil); p != nil {
+		t.Errorf("no price books: got %v, want none", p)
+	}
+}

@@ -42,9 +42,13 @@ type Row struct {
 	WorstMarginDB   *float64 `json:"worst_margin_db"` // smallest loss margin, dB; nil without fibre legs
 	NewTrenchM      float64  `json:"new_trench_m"`    // metres of new trench opened
 	DiverseLinks    int      `json:"diverse_links"`   // links with two disjoint feasible legs
-	DiverseMissing  int      `json:"diverse_missing"` // links that asked for a diverse route and lack one
-	MediaMix        string   `json:"media_mix"`       // feasible legs per medium: "om4:3 os2:5", by medium
-	Warnings        int      `json:"warnings"`
+	// DiverseSinglePoint is, of DiverseLinks, those whose two routes still share a single
+	// point of failure (output.Summary.DiverseSinglePoint); nil (absent) in a rows file
+	// written before it was kept.
+	DiverseSinglePoint *int   `json:"diverse_single_point,omitempty"`
+	DiverseMissing     int    `json:"diverse_missing"` // links that asked for a diverse route and lack one
+	MediaMix           string `json:"media_mix"`       // feasible legs per medium: "om4:3 os2:5", by medium
+	Warnings           int    `json:"warnings"`
 	// Note says what of the base plan the scenario left out, and why (output.Summary.Notes,
 	// joined by "; "), e.g. a link entry for the building the scenario makes the hub; and what
 	// its total leaves out, priced by a book without them (output.Summary.NotPricedNote).
@@ -79,6 +83,8 @@ func (r *Row) fill(s output.Summary) {
 	r.WorstMarginDB = s.WorstMarginDB
 	r.NewTrenchM = s.NewTrenchM
 	r.DiverseLinks, r.DiverseMissing = s.DiverseLinks, s.DiverseShort
+	spof := s.DiverseSinglePoint
+	r.DiverseSinglePoint = &spof
 	media := make([]string, 0, len(s.MediaMix))
 	for m, n := range s.MediaMix {
 		media = append(media, fmt.Sprintf("%s:%d", m, n))
