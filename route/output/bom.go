@@ -180,7 +180,7 @@ func UnitsOf(opt WriteOptions) Units {
 func (u Units) Rounded(m float64, decimals int) float64 { return roundHalfAway(u.M(m), decimals) }
 
 // bomXLSX renders bom.xlsx: sheets summary, links (the cable schedule), bill of materials,
-// pull sections, duct fill and loss budgets. Extended prices, subtotals, markups, the
+// pull sections, structures (StructuresOf), duct fill and loss budgets. Extended prices, subtotals, markups, the
 // total and the budget check are formulas, so a changed unit price or quantity moves
 // them. Physical quantities are numbers with their unit in the header.
 func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptions) error {
@@ -216,6 +216,11 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 		workbook.Column{Name: "sidewall pressure", Unit: u.SWBP}, workbook.Column{Name: "added at from"},
 		workbook.Column{Name: "added at to"}, workbook.Column{Name: "within rating"}, workbook.Column{Name: "reason"})
 	pulls.Filter = true
+	structs := wb.AddSheet("structures",
+		workbook.Column{Name: "mark"}, workbook.Column{Name: "structure"}, workbook.Column{Name: "status"},
+		workbook.Column{Name: "type"}, workbook.Column{Name: "purpose"}, workbook.Column{Name: "longitude", Unit: "deg"},
+		workbook.Column{Name: "latitude", Unit: "deg"}, workbook.Column{Name: "legs through it"})
+	structs.Filter = true
 	fill := wb.AddSheet("duct fill",
 		workbook.Column{Name: "span"}, workbook.Column{Name: "pathway"}, workbook.Column{Name: "duct"},
 		workbook.Column{Name: "added"}, workbook.Column{Name: "duct ID", Unit: u.Diameter}, workbook.Column{Name: "cables"},
@@ -405,6 +410,15 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 			workbook.Number(u.M(p.BendRadiusM), 2), workbook.Number(u.N(p.TensionN), 1), workbook.Number(u.N(p.OtherN), 1),
 			workbook.Number(u.N(p.RatedN), 1), workbook.Number(100*p.TensionN/p.RatedN, 1), workbook.Number(u.NPerM(p.SWBPNPerM), 1),
 			workbook.Bool(p.AddedFrom), workbook.Bool(p.AddedTo), workbook.Bool(p.WithinRating), workbook.Text(install.Why(p.Over, PullUnits(opt))))
+	}
+	sts, err := StructuresOf(r)
+	if err != nil {
+		return err
+	}
+	for _, st := range sts {
+		structs.Append(workbook.Int(int64(st.Mark)), workbook.Text(st.Place(func(m float64) string { return LengthText(opt, m) })),
+			workbook.Text(st.Status), workbook.Text(st.Type), workbook.Text(st.Purpose), workbook.Number(st.Point[0], 7),
+			workbook.Number(st.Point[1], 7), workbook.Text(strings.Join(st.Legs, " ")))
 	}
 	for _, f := range r.Estimate.Fill {
 		ods := make([]string, len(f.CablesODMM))

@@ -158,6 +158,16 @@ type pullRow struct {
 	Reason    string
 }
 
+// structureRow is a row of the structures table (output.Structure).
+type structureRow struct {
+	Mark                  int
+	Place                 string
+	Status, Type, Purpose string
+	Lon, Lat              string
+	Legs                  string
+	ToBuild               bool
+}
+
 type driverRow struct {
 	Category, Item string
 	Cost           string
@@ -227,8 +237,10 @@ type planView struct {
 	Assumed        []string
 	AssumedSurface string
 	Buildings      []buildingRow
+	// Structures is the structures table (output.StructuresOf), keyed to the map's numbers.
+	Structures []structureRow
 	// How much of each detail table is listed (DetailRows).
-	LegsListed, PullsListed, DuctsListed, FillListed listed
+	LegsListed, PullsListed, DuctsListed, FillListed, StructuresListed listed
 }
 
 // DetailRows is the most rows a detail table of the plan report lists: the links, the pull
@@ -512,7 +524,12 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
-	m, err := buildMap(ctx, r, opt, med)
+	sts, err := output.StructuresOf(r)
+	if err != nil {
+		return nil, err
+	}
+	v.Structures, v.StructuresListed = structureRows(sts, opt)
+	m, err := buildMap(ctx, r, opt, med, sts)
 	if err != nil {
 		return nil, err
 	}
@@ -526,6 +543,26 @@ func abs(x float64) float64 {
 		return -x
 	}
 	return x
+}
+
+// structureLegs is the most legs a row of the structures table names; the rest are counted,
+// and bom.xlsx's structures sheet names every one. Common practice, no published source.
+const structureLegs = 12
+
+// structureRows is the structures table, as many rows as DetailRows lists.
+func structureRows(sts []output.Structure, opt Options) ([]structureRow, listed) {
+	shown := listOf(len(sts))
+	out := make([]structureRow, shown.Shown)
+	for i, st := range sts[:shown.Shown] {
+		legs := strings.Join(st.Legs[:min(len(st.Legs), structureLegs)], ", ")
+		if n := len(st.Legs) - structureLegs; n > 0 {
+			legs += fmt.Sprintf(" and %d more", n)
+		}
+		out[i] = structureRow{Mark: st.Mark, Place: st.Place(opt.lengthU), Status: st.Status, Type: st.Type, Purpose: st.Purpose,
+			Lon: strconv.FormatFloat(st.Point[0], 'f', 7, 64), Lat: strconv.FormatFloat(st.Point[1], 'f', 7, 64), Legs: legs,
+			ToBuild: st.Status == output.StructureToBuild}
+	}
+	return out, shown
 }
 
 // costBars is the cost-by-category chart: the legs' cable, labour, construction and optics,
@@ -861,7 +898,10 @@ func legendOf(r *route.Result, med map[string]mediumInfo, order []string, m mapV
 		lg.Structures = append(lg.Structures, legendItem{Shape: structureShape(t), Class: "st", Label: t})
 	}
 	if len(m.Turns) > 0 {
-		lg.Structures = append(lg.Structures, legendItem{Shape: "square", Class: "st turn", Label: "handhole to add (a route turns between pathways, new pathway joins, or a lateral taps a duct)"})
+		lg.Structures = append(lg.Structures, legendItem{Shape: "square", Class: "st turn", Label: "handhole to add (a route turns between pathways, new pathway joins, a lateral taps a duct, along new construction, or a pull point)"})
+	}
+	if len(m.Keys) > 0 {
+		lg.Structures = append(lg.Structures, legendItem{Shape: "key", Class: "key", Label: "structure number, keyed to the structures table (numbers that would crowd a label are left out)"})
 	}
 	if len(m.Entrances) > 0 {
 		lg.Structures = append(lg.Structures, legendItem{Shape: "dot", Class: "ent", Label: "building entrance"})
