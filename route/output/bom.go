@@ -14,6 +14,7 @@ import (
 	"spanwright/media/install"
 	"spanwright/route"
 	"spanwright/route/escape"
+	"spanwright/route/estimate"
 	"spanwright/route/routing"
 	"spanwright/route/workbook"
 )
@@ -226,7 +227,8 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 		workbook.Column{Name: "added"}, workbook.Column{Name: "duct ID", Unit: u.Diameter}, workbook.Column{Name: "cables"},
 		workbook.Column{Name: odsHeader(r), Unit: u.Diameter}, workbook.Column{Name: "fill", Unit: "%"},
 		workbook.Column{Name: "NFPA 70 limit", Unit: "%"}, workbook.Column{Name: "jam ratio 1.05 D/d"},
-		workbook.Column{Name: "in jam band 2.8-3.2"}, workbook.Column{Name: "ok"})
+		workbook.Column{Name: "in jam band 2.8-3.2"}, workbook.Column{Name: "ok"},
+		workbook.Column{Name: "legs (one per cable)"}, workbook.Column{Name: "pulling note"})
 	fill.Filter = true
 	loss := wb.AddSheet("loss budgets",
 		workbook.Column{Name: "link"}, workbook.Column{Name: "leg"}, workbook.Column{Name: "medium"},
@@ -435,7 +437,8 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 		}
 		fill.Append(workbook.Text(f.Span), workbook.Text(f.PathwayID), duct, workbook.Bool(f.Added),
 			workbook.Number(u.MM(f.DuctIDMM), 2), workbook.Int(int64(len(f.CablesODMM))), workbook.Text(strings.Join(ods, " ")),
-			pct, limit, jam, workbook.Bool(f.JamRisk), workbook.Bool(f.OK))
+			pct, limit, jam, workbook.Bool(f.JamRisk), workbook.Bool(f.OK), workbook.Text(strings.Join(f.Legs, " ")),
+			workbook.Text(ductNote(f)))
 	}
 	for i := range r.Legs {
 		l := &r.Legs[i]
@@ -453,6 +456,15 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 		}
 	}
 	return wb.WriteToContext(ctx, out)
+}
+
+// ductNote is what an installer is told of a duct of the duct fill: that too many separate
+// cables are pulled into it (install.CrowdedNote); "" for none or for cables that fit no duct.
+func ductNote(f estimate.DuctFill) string {
+	if f.Unplaced {
+		return ""
+	}
+	return install.CrowdedNote(len(f.CablesODMM), f.Innerduct)
 }
 
 // passage is the links sheet's last cells of a leg, as text: links.csv's last columns (see

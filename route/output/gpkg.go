@@ -407,7 +407,7 @@ type pullPoint struct {
 	junction, span string
 	offM           float64
 	links          []string
-	legs           []string // the legs pulled there, "link/leg" (LegLabel), in leg order
+	legs           []string // the legs pulled there, "link/leg" (routing.Leg.Label), in leg order
 	// lateral: the point is on a counted lateral (drawn as lat), offM metres from its
 	// building; span is then "lateral of" and the entrance.
 	lateral bool
@@ -494,8 +494,8 @@ func addedPullPoints(r *route.Result) []pullPoint {
 			if n := len(at.links); n == 0 || at.links[n-1] != l.Link.ID {
 				at.links = append(at.links, l.Link.ID) // pulls come in leg order, a link's legs together
 			}
-			if n := len(at.legs); n == 0 || at.legs[n-1] != LegLabel(l) {
-				at.legs = append(at.legs, LegLabel(l))
+			if n := len(at.legs); n == 0 || at.legs[n-1] != l.Label() {
+				at.legs = append(at.legs, l.Label())
 			}
 		}
 	}

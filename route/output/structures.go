@@ -56,10 +56,6 @@ func (s Structure) Place(length func(m float64) string) string {
 	return estimate.PullPoint{ID: s.ID, Span: s.Span, AtM: s.AtM}.Text(length)
 }
 
-// LegLabel is how the structures table and the duct assignment name a leg: "link/leg", as the
-// report's map tags each route (data-leg).
-func LegLabel(l *routing.Leg) string { return l.Link.ID + "/" + l.Name }
-
 // StructuresOf lists the structures of the plan: first the handholes it adds (at junctions,
 // by junction id; along new construction, by span and offset; the pulling plan's, as
 // addedPullPoints sorts them), then the existing structures its feasible legs pass, by id.
@@ -74,7 +70,7 @@ func StructuresOf(r *route.Result) ([]Structure, error) {
 		if !l.Feasible {
 			continue
 		}
-		label := LegLabel(l)
+		label := l.Label()
 		for _, j := range r.Site.JunctionsOf(l.Steps) {
 			if n := len(atJunction[j]); n == 0 || atJunction[j][n-1] != label {
 				atJunction[j] = append(atJunction[j], label)

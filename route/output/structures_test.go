@@ -1,6 +1,7 @@
 package output
 
 import (
+	"maps"
 	"slices"
 	"strings"
 	"testing"
@@ -84,8 +85,8 @@ func TestStructuresOfDemo(t *testing.T) {
 	for i := range r.Legs {
 		l := &r.Legs[i]
 		for _, j := range l.Turns {
-			if st, ok := byID[j]; !ok || st.Status != StructureToBuild || !slices.Contains(st.Legs, LegLabel(l)) {
-				t.Errorf("%s turns at %s: row %+v", LegLabel(l), j, st)
+			if st, ok := byID[j]; !ok || st.Status != StructureToBuild || !slices.Contains(st.Legs, l.Label()) {
+				t.Errorf("%s turns at %s: row %+v", l.Label(), j, st)
 			}
 		}
 	}
@@ -93,3 +94,47 @@ func TestStructuresOfDemo(t *testing.T) {
 
 // metresOf writes metres with their unit, for test messages.
 func metresOf(m float64) string { return LengthText(WriteOptions{}, m) }
+
+// TestDuctLegs holds the duct assignment to the legs: on every span of the duct fill, each
+// leg on the span is named once per cable it pulls (routing.CableTakeoff.Cables), over the
+// span's ducts and its row of cables that fit none, and each duct names one leg per cable
+// whose diameter it counts.
+func TestDuctLegs(t *testing.T) {
+	t.Parallel()
+	r := testplan.DemoResult(t)
+	got := map[string]map[string]int{}
+	for _, f := range r.Estimate.Fill {
+		if len(f.Legs) != len(f.CablesODMM) {
+			t.Errorf("span %s duct %d: %d legs for %d cables", f.Span, f.Duct, len(f.Legs), len(f.CablesODMM))
+		}
+		if got[f.Span] == nil {
+			got[f.Span] = map[string]int{}
+		}
+		for _, l := range f.Legs {
+			got[f.Span][l]++
+		}
+	}
+	if len(got) == 0 {
+		t.Fatal("no duct fill")
+	}
+	want := map[string]map[string]int{}
+	for i := range r.Legs {
+		l := &r.Legs[i]
+		if !l.Feasible {
+			continue
+		}
+		for _, st := range l.Steps {
+			if got[st.SpanID] != nil {
+				if want[st.SpanID] == nil {
+					want[st.SpanID] = map[string]int{}
+				}
+				want[st.SpanID][l.Label()] += l.Cable.Cables
+			}
+		}
+	}
+	for span, on := range got {
+		if !maps.Equal(on, want[span]) {
+			t.Errorf("span %s: ducts name %v, the legs on it pull %v", span, on, want[span])
+		}
+	}
+}

@@ -307,7 +307,7 @@ func buildMap(ctx context.Context, r *route.Result, opt Options, med map[string]
 			}
 		}
 		mi := med[l.Medium]
-		m.Routes = append(m.Routes, routePath{D: d, Stroke: mi.Hex, Dash: mi.Dash, Leg: l.Link.ID + "/" + l.Name, Medium: l.Medium,
+		m.Routes = append(m.Routes, routePath{D: d, Stroke: mi.Hex, Dash: mi.Dash, Leg: l.Label(), Medium: l.Medium,
 			Title: fmt.Sprintf("%s %s leg, %s to %s: %s (%s), %s", l.Link.ID, l.Name, l.Link.From, l.Link.To, mi.Label, mi.ColourLabel, opt.lengthU(l.RouteM))})
 	}
 	m.Carriers, m.Works, m.Counts = overRoutes(r, p, opt)

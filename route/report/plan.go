@@ -137,6 +137,8 @@ type ductRow struct {
 	JamRisk       bool
 	Over          bool
 	Bad           bool
+	Legs          string // the legs of its cables, one per cable (estimate.DuctFill.Legs)
+	Note          string // too many separate cables for sound pulls (install.CrowdedNote)
 }
 
 type pullRow struct {
@@ -216,17 +218,20 @@ type planView struct {
 	Ducts      []ductRow
 	DuctsOver  int
 	NoDuct     string // how many cables fit no duct of their span (estimate.DuctFill.Unplaced), "" for none
-	HasEst     bool
-	Pulls      []pullRow
-	PullsOver  int
-	PullPoints int
-	Force      string
-	Sidewall   string // the unit of sidewall pressure: N/m, or lbf/ft when imperial
-	Diameter   string // the unit of duct and cable diameters: mm, or in when imperial
-	Drivers    []driverRow
-	BOMLabel   string
-	Subtotal   string
-	ModelCost  string
+	// Crowded counts the ducts given more separate cables than sound pulls allow
+	// (install.Crowded), of every duct, listed or not; Separate is that number of cables.
+	Crowded, Separate int
+	HasEst            bool
+	Pulls             []pullRow
+	PullsOver         int
+	PullPoints        int
+	Force             string
+	Sidewall          string // the unit of sidewall pressure: N/m, or lbf/ft when imperial
+	Diameter          string // the unit of duct and cable diameters: mm, or in when imperial
+	Drivers           []driverRow
+	BOMLabel          string
+	Subtotal          string
+	ModelCost         string
 	// Bound and Gap are the optimizer's proved lower bound on its objective and the gap of the
 	// routes to it in percent (output.Summary.LowerBoundCents, GapPct, as output.GapText
 	// prints it); Bound is "" without a bound.
@@ -493,8 +498,11 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 		for _, f := range e.Fill {
 			if f.Unplaced {
 				noDuct += len(f.CablesODMM)
+			} else if install.Crowded(len(f.CablesODMM), f.Innerduct) {
+				v.Crowded++
 			}
 		}
+		v.Separate = install.SeparateCablesPerDuct
 		switch {
 		case noDuct == 1:
 			v.NoDuct = "1 cable fits no duct of its span"
@@ -990,6 +998,10 @@ func ductRows(fs []estimate.DuctFill, opt Options) ([]ductRow, int, listed) {
 		if f.JamRatio > 0 {
 			row.Jam = strconv.FormatFloat(f.JamRatio, 'f', 2, 64)
 		}
+		row.Legs = strings.Join(f.Legs, ", ")
+		if !f.Unplaced {
+			row.Note = install.CrowdedNote(len(f.CablesODMM), f.Innerduct)
+		}
 		if f.Unplaced {
 			row.Fill, row.Allowed, row.BarW, row.LimitX = "fit no duct", "", num(0), num(0)
 		}
@@ -1144,6 +1156,10 @@ func (d ductRow) HTML() template.HTML {
 	p.w(`<td class="n">`, t(d.Jam))
 	if d.JamRisk {
 		p.w(" <b>jam risk</b>")
+	}
+	p.w("</td><td>", t(d.Legs))
+	if d.Note != "" {
+		p.w("<br><b>", t(d.Note), "</b>")
 	}
 	p.w("</td></tr>\n")
 	return p.html()
