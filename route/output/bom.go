@@ -201,7 +201,8 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 		workbook.Column{Name: "highest pull", Unit: u.Force}, workbook.Column{Name: "rated pull", Unit: u.Force},
 		workbook.Column{Name: "model cost", Unit: cur}, workbook.Column{Name: "feasible"}, workbook.Column{Name: "note"},
 		workbook.Column{Name: "from entrance"}, workbook.Column{Name: "to entrance"}, workbook.Column{Name: "buildings crossed"},
-		workbook.Column{Name: "turns at added handholes"}, workbook.Column{Name: "reason code"})
+		workbook.Column{Name: "turns at added handholes"}, workbook.Column{Name: "reason code"},
+		workbook.Column{Name: "jacket colour"}, workbook.Column{Name: "cable labels"})
 	links.Filter = true
 	bom := wb.AddSheet("bill of materials", workbook.Column{Name: "category"}, workbook.Column{Name: "item"},
 		workbook.Column{Name: "unit"}, workbook.Column{Name: "quantity"}, workbook.Column{Name: "unit price", Unit: cur},
@@ -391,7 +392,7 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 		if !l.Feasible {
 			cells = append(cells, make([]workbook.Cell, 16)...)
 			cells = append(cells, workbook.Cents(l.Cost.TotalCents()), workbook.Bool(false), workbook.Text(InUnits(opt, l.Reason)))
-			links.Append(append(cells, passage(r, l)...)...)
+			links.Append(append(append(cells, passage(r, l)...), workbook.Blank(), workbook.Blank())...)
 			continue
 		}
 		hi := hiOf[i]
@@ -402,7 +403,7 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 			workbook.Int(int64(t.Structures)), workbook.Number(u.M(t.LengthM), 1), workbook.Int(int64(t.Reels)),
 			workbook.Int(int64(t.Joins)), workbook.Int(int64(pullsOf[i])), workbook.Number(u.N(hi), 1), workbook.Number(u.N(rated), 1),
 			workbook.Cents(l.Cost.TotalCents()), workbook.Bool(true), workbook.Text(InUnits(opt, l.Reason)))
-		links.Append(append(cells, passage(r, l)...)...)
+		links.Append(append(append(cells, passage(r, l)...), workbook.Text(JacketText(r, l)), workbook.Text(strings.Join(CableLabels(r, i), " ")))...)
 	}
 	for _, p := range r.Estimate.Pulls {
 		l := &r.Legs[p.Leg]
