@@ -421,7 +421,7 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 	for _, st := range sts {
 		structs.Append(workbook.Int(int64(st.Mark)), workbook.Text(st.Place(func(m float64) string { return LengthText(opt, m) })),
 			workbook.Text(st.Status), workbook.Text(st.Type), workbook.Text(st.Purpose), workbook.Number(st.Point[0], 7),
-			workbook.Number(st.Point[1], 7), workbook.Text(strings.Join(st.Legs, " ")))
+			workbook.Number(st.Point[1], 7), workbook.Text(listCell(st.Legs, "plan.gpkg's structures layer")))
 	}
 	for _, f := range r.Estimate.Fill {
 		ods := make([]string, len(f.CablesODMM))
@@ -466,6 +466,25 @@ func ductNote(f estimate.DuctFill) string {
 		return ""
 	}
 	return install.CrowdedNote(len(f.CablesODMM), f.Innerduct)
+}
+
+// listCell is ids separated by spaces for a workbook cell: when they do not fit one cell
+// (xlCellChars) it keeps as many whole ids as fit and says how many more the file named
+// lists, as fromCell does.
+func listCell(ids []string, where string) string {
+	text := strings.Join(ids, " ")
+	if utf8.RuneCountInString(text) <= xlCellChars {
+		return text
+	}
+	n, kept := 0, 0
+	for _, id := range ids {
+		if n+utf8.RuneCountInString(id)+1 > xlCellChars {
+			break
+		}
+		n += utf8.RuneCountInString(id) + 1
+		kept++
+	}
+	return fmt.Sprintf("%s and %d more, all in %s", strings.Join(ids[:kept], " "), len(ids)-kept, where)
 }
 
 // passage is the links sheet's last cells of a leg, as text: links.csv's last columns (see

@@ -3,6 +3,7 @@ package output
 import (
 	"maps"
 	"slices"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -136,5 +137,26 @@ func TestDuctLegs(t *testing.T) {
 		if !maps.Equal(on, want[span]) {
 			t.Errorf("span %s: ducts name %v, the legs on it pull %v", span, on, want[span])
 		}
+	}
+}
+
+// TestListCell: a list longer than a workbook cell holds (Excel specifications and limits:
+// 32,767 characters in a cell) keeps whole ids and counts the rest.
+func TestListCell(t *testing.T) {
+	t.Parallel()
+	ids := make([]string, 5000)
+	for i := range ids {
+		ids[i] = "L-" + strings.Repeat("x", 10) + "/primary"
+	}
+	got := listCell(ids, "plan.gpkg")
+	if len(got) > 32767 || !strings.HasSuffix(got, " more, all in plan.gpkg") {
+		t.Fatalf("%d characters, ends %q", len(got), got[len(got)-40:])
+	}
+	kept := strings.Count(got, "/primary")
+	if !strings.Contains(got, " and "+strconv.Itoa(len(ids)-kept)+" more") {
+		t.Errorf("kept %d, text ends %q", kept, got[len(got)-40:])
+	}
+	if short := listCell(ids[:3], "x"); short != strings.Join(ids[:3], " ") {
+		t.Errorf("short list %q", short)
 	}
 }

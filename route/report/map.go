@@ -62,6 +62,7 @@ type countLabel struct {
 	X, Y  string
 	Text  string
 	Title string
+	at    xy // where it is drawn, for the labels placed after it
 }
 
 type scaleBar struct {
@@ -389,6 +390,9 @@ func buildMap(ctx context.Context, r *route.Result, opt Options, med map[string]
 		m.Turns = append(m.Turns, mark{X: num(q.X), Y: num(q.Y), Shape: "square", Class: "st turn",
 			Title: st.Place(opt.lengthU) + ": handhole to add, " + purposeWords(st.Purpose)})
 	}
+	for _, c := range m.Counts {
+		taken = append(taken, c.at)
+	}
 	m.Keys = structureKeys(sts, p, taken, opt.lengthU)
 	for _, e := range net.Entrances {
 		j, ok := net.Junction(e.Junction)
@@ -669,7 +673,7 @@ func overRoutes(r *route.Result, p *projection, opt Options) (carriers, works []
 			word = "cable"
 		}
 		counts = append(counts, countLabel{X: num(c.px.X), Y: num(c.px.Y), Text: strconv.Itoa(c.n),
-			Title: fmt.Sprintf("%s: %d %s", c.spanID, c.n, word)})
+			Title: fmt.Sprintf("%s: %d %s", c.spanID, c.n, word), at: c.px})
 	}
 	return carriers, works, counts
 }
@@ -696,7 +700,7 @@ func midpoint(px []xy) (xy, float64) {
 }
 
 // Structure number labels: placed up and to the right of the mark, and left out within
-// keyGapPx of a label already placed (a building's or another number), the handholes to build
+// keyGapPx of a label already placed (a building's, a cable count or another number), the handholes to build
 // first (output.StructuresOf's order). Common practice, no published source.
 const (
 	keyDXPx  = 6.0
