@@ -59,27 +59,56 @@ func (s Structure) Place(length func(m float64) string) string {
 // StructuresOf lists the structures of the plan: first the handholes it adds (at junctions,
 // by junction id; along new construction, by span and offset; the pulling plan's, as
 // addedPullPoints sorts them), then the existing structures its feasible legs pass, by id.
-// Marks number them in that order. The legs through a structure at a junction are those
-// whose spans meet there; through one on a span, those on the span; through a pull point on
-// a lateral, those pulled there.
+// Marks number them in that order; rows may share their Legs, which are not to be changed.
+// The legs through a structure at a junction are those whose spans meet there; through one
+// on a span, those on the span; through a pull point on a lateral, those pulled there.
 func StructuresOf(r *route.Result) ([]Structure, error) {
 	net := r.Site.Net
+	// The junctions and spans whose legs the table names, and then those legs: only these,
+	// for a large plan's legs pass tens of thousands of others.
 	atJunction, onSpan := map[string][]string{}, map[string][]string{}
+	for _, h := range r.Handholes {
+		atJunction[h.Junction] = nil
+	}
+	for _, st := range r.Site.Campus.Structures {
+		atJunction[st.ID] = nil
+	}
+	pulls := addedPullPoints(r)
+	for _, p := range pulls {
+		switch {
+		case p.junction != "":
+			atJunction[p.junction] = nil
+		case !p.lateral:
+			onSpan[p.span] = nil
+		}
+	}
+	if r.Estimate != nil {
+		for _, h := range r.Estimate.Construction.RunHandholes {
+			onSpan[h.Span] = nil
+		}
+	}
+	// addTo appends label to m[k] when k is wanted, once per leg (a leg's labels come
+	// together).
+	addTo := func(m map[string][]string, k, label string) {
+		legs, ok := m[k]
+		if ok && (len(legs) == 0 || legs[len(legs)-1] != label) {
+			m[k] = append(legs, label)
+		}
+	}
 	for i := range r.Legs {
 		l := &r.Legs[i]
 		if !l.Feasible {
 			continue
 		}
 		label := l.Label()
-		for _, j := range r.Site.JunctionsOf(l.Steps) {
-			if n := len(atJunction[j]); n == 0 || atJunction[j][n-1] != label {
-				atJunction[j] = append(atJunction[j], label)
-			}
-		}
 		for _, st := range l.Steps {
-			if n := len(onSpan[st.SpanID]); n == 0 || onSpan[st.SpanID][n-1] != label {
-				onSpan[st.SpanID] = append(onSpan[st.SpanID], label)
+			sp, ok := net.Span(st.SpanID)
+			if !ok {
+				continue
 			}
+			addTo(atJunction, sp.From, label)
+			addTo(atJunction, sp.To, label)
+			addTo(onSpan, st.SpanID, label)
 		}
 	}
 	var out []Structure
@@ -99,7 +128,7 @@ func StructuresOf(r *route.Result) ([]Structure, error) {
 			return nil, fmt.Errorf("handhole at %s: not a junction of the network", h.Junction)
 		}
 		add(Structure{ID: h.Junction, Status: StructureToBuild, Type: geo.StructureHandhole, Purpose: h.Purpose(),
-			Point: j.Point, Legs: slices.Clone(atJunction[h.Junction])})
+			Point: j.Point, Legs: atJunction[h.Junction]})
 	}
 	if r.Estimate != nil {
 		for _, h := range r.Estimate.Construction.RunHandholes {
@@ -108,10 +137,10 @@ func StructuresOf(r *route.Result) ([]Structure, error) {
 				return nil, fmt.Errorf("handhole along new construction on %s: not a span of the network", h.Span)
 			}
 			add(Structure{Span: h.Span, AtM: h.AtM, Status: StructureToBuild, Type: geo.StructureHandhole, Purpose: PurposeRun,
-				Point: sp.PointAt(h.AtM), Legs: slices.Clone(onSpan[h.Span])})
+				Point: sp.PointAt(h.AtM), Legs: onSpan[h.Span]})
 		}
 	}
-	for _, p := range addedPullPoints(r) {
+	for _, p := range pulls {
 		s := Structure{Status: StructureToBuild, Type: geo.StructureHandhole, Purpose: PurposePull}
 		switch {
 		case p.junction != "":
@@ -119,15 +148,15 @@ func StructuresOf(r *route.Result) ([]Structure, error) {
 			if !ok {
 				return nil, fmt.Errorf("pull point at %s: not a junction of the network", p.junction)
 			}
-			s.ID, s.Point, s.Legs = p.junction, j.Point, slices.Clone(atJunction[p.junction])
+			s.ID, s.Point, s.Legs = p.junction, j.Point, atJunction[p.junction]
 		case p.lateral:
-			s.Span, s.AtM, s.Point, s.Legs = p.span, p.offM, p.lat.PointAt(p.offM), slices.Clone(p.legs)
+			s.Span, s.AtM, s.Point, s.Legs = p.span, p.offM, p.lat.PointAt(p.offM), p.legs
 		default:
 			sp, ok := net.Span(p.span)
 			if !ok {
 				return nil, fmt.Errorf("pull point on %s: not a span of the network", p.span)
 			}
-			s.Span, s.AtM, s.Point, s.Legs = p.span, p.offM, sp.PointAt(p.offM), slices.Clone(onSpan[p.span])
+			s.Span, s.AtM, s.Point, s.Legs = p.span, p.offM, sp.PointAt(p.offM), onSpan[p.span]
 		}
 		add(s)
 	}
@@ -156,7 +185,7 @@ func StructuresOf(r *route.Result) ([]Structure, error) {
 			what = append(what, PurposePassed)
 		}
 		add(Structure{ID: st.ID, Status: StructureExisting, Type: st.Type, Purpose: strings.Join(what, ", "),
-			Point: st.Point, Legs: slices.Clone(legs)})
+			Point: st.Point, Legs: legs})
 	}
 	return out, nil
 }
