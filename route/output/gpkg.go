@@ -13,6 +13,7 @@ import (
 	"spanwright/geo"
 	"spanwright/geo/gpkgout"
 	"spanwright/route"
+	"spanwright/route/estimate"
 	"spanwright/route/fileset"
 	"spanwright/route/internal/ctxio"
 	"spanwright/route/items"
@@ -428,6 +429,17 @@ func addedPullPoints(r *route.Result) []pullPoint {
 		m              float64
 	}
 	byKey := map[key]*pullPoint{}
+	isJunction := func(id string) bool {
+		_, ok := r.Site.Net.Junction(id)
+		return id != "" && ok
+	}
+	// endOf is the pull point of section p at x: its From at its start, else its To.
+	endOf := func(p estimate.PullSection, x float64) estimate.PullPoint {
+		if x == p.StartM {
+			return p.From
+		}
+		return p.To
+	}
 	var keys []key
 	// A leg's junctions, spans and distances along it, for the pulls of one leg after the
 	// other (pulls come in leg order, a leg's sections together): worked out once per leg.
@@ -482,6 +494,10 @@ func addedPullPoints(r *route.Result) []pullPoint {
 					off = spans[q].lengthM - off
 				}
 				k, pp.span, pp.offM = key{span: spans[q].id, m: math.Round(off)}, spans[q].id, off
+			} else if pt := endOf(p, end.x); isJunction(pt.ID) {
+				// The end of the leg's spans where a counted lateral pulled with the leg
+				// (estimate.PullSection.Lateral) joins them: a junction, as the bill counts it.
+				k, pp.junction = key{junction: pt.ID}, pt.ID
 			} else {
 				continue // a building: never an added point
 			}
