@@ -366,3 +366,21 @@ func TestLoadTakes(t *testing.T) {
 		}
 	}
 }
+
+// TestCrowded: more than SeparateCablesPerDuct loose cables in a duct is crowded (common
+// practice, no published source); cables each in an innerduct never are.
+func TestCrowded(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		cables    int
+		innerduct bool
+		want      bool
+	}{{1, false, false}, {SeparateCablesPerDuct, false, false}, {SeparateCablesPerDuct + 1, false, true}, {37, false, true}, {37, true, false}} {
+		if got := Crowded(tc.cables, tc.innerduct); got != tc.want {
+			t.Errorf("%d cables, innerduct %v: crowded %v, want %v", tc.cables, tc.innerduct, got, tc.want)
+		}
+		if note := CrowdedNote(tc.cables, tc.innerduct); (note != "") != tc.want {
+			t.Errorf("%d cables, innerduct %v: note %q", tc.cables, tc.innerduct, note)
+		}
+	}
+}

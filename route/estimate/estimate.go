@@ -135,12 +135,17 @@ type DuctFill struct {
 	Added           bool // a duct the plan adds
 	DuctIDMM        float64
 	CablesODMM      []float64 // the occupants' outside diameters: the cables, or their innerducts
-	Innerduct       bool      // the occupants are innerducts, one per cable (design.innerduct_od_mm)
-	FillPct         float64   // occupants' area as a percentage of the duct's area
-	AllowedPct      float64   // 53, 31 or 40 % for 1, 2 or more cables
-	OK              bool
-	JamRatio        float64 // 0 when the jam check does not apply
-	JamRisk         bool
+	// Legs names the leg (routing.Leg.Label) of each cable in the duct, one entry per cable
+	// (a leg of two cables twice), in the order the packing was given them: the optimizer's
+	// link order on a span it limits, leg order on new construction (CablesODMM is in the
+	// order placed, largest first on new construction).
+	Legs       []string
+	Innerduct  bool    // the occupants are innerducts, one per cable (design.innerduct_od_mm)
+	FillPct    float64 // occupants' area as a percentage of the duct's area
+	AllowedPct float64 // 53, 31 or 40 % for 1, 2 or more cables
+	OK         bool
+	JamRatio   float64 // 0 when the jam check does not apply
+	JamRisk    bool
 	// Unplaced marks the row of a span's cables that fit none of its ducts (install.Load.Takes:
 	// too wide, or every duct full or jam-prone for them): Duct is 0, CablesODMM lists them,
 	// FillPct and AllowedPct are 0 and OK is false. Every cable the legs pull along a span of
@@ -284,7 +289,7 @@ const (
 )
 
 // Sources of bill quantities (media.Quantity.From).
-func fromLeg(l *routing.Leg) string { return "leg " + l.Link.ID + "/" + l.Name }
+func fromLeg(l *routing.Leg) string { return "leg " + l.Label() }
 func fromBuilding(b string) string  { return "building " + b }
 func fromSpan(id string) string     { return "span " + id }
 func fromEntrance(e routing.EntranceUse) string {
@@ -684,8 +689,8 @@ func (r *run) ductFill() {
 	// The cables each link pulls along each span, in leg order: a diverse link's two legs
 	// share no span.
 	type onSpan struct {
-		link string
-		ods  []float64
+		link, leg string
+		ods       []float64
 	}
 	bySpan := map[string][]onSpan{}
 	for i := range r.Legs {
@@ -702,32 +707,45 @@ func (r *run) ductFill() {
 			link = l.Link.ID
 		}
 		for _, st := range l.Steps {
-			bySpan[st.SpanID] = append(bySpan[st.SpanID], onSpan{link, slices.Repeat([]float64{od}, l.Cable.Cables)})
+			bySpan[st.SpanID] = append(bySpan[st.SpanID], onSpan{link, l.Label(), slices.Repeat([]float64{od}, l.Cable.Cables)})
 		}
 	}
 	// cables lists a span's cables in the optimizer's packing order (the links in order), then
-	// any the optimizer did not count, in leg order.
-	cables := func(span string, order []string) []float64 {
-		var ods []float64
+	// any the optimizer did not count, in leg order; legs names the leg of each.
+	cables := func(span string, order []string) (ods []float64, legs []string) {
 		on := bySpan[span]
 		done := make([]bool, len(on))
+		take := func(k int) {
+			ods, done[k] = append(ods, on[k].ods...), true
+			legs = append(legs, slices.Repeat([]string{on[k].leg}, len(on[k].ods))...)
+		}
 		for _, id := range order {
 			for k := range on {
 				if !done[k] && on[k].link == id {
-					ods, done[k] = append(ods, on[k].ods...), true
+					take(k)
 					break
 				}
 			}
 		}
 		for k := range on {
 			if !done[k] {
-				ods = append(ods, on[k].ods...)
+				take(k)
 			}
 		}
-		return ods
+		return ods, legs
+	}
+	// legsIn names the legs of the cables a packing put in duct d (-1: in none).
+	legsIn := func(a install.Assignment, legs []string, d int) []string {
+		var out []string
+		for i, at := range a.DuctOf {
+			if at == d {
+				out = append(out, legs[i])
+			}
+		}
+		return out
 	}
 	// pack fills the ducts of a span, existing ones first; ducts from `added` on are new.
-	pack := func(sp *geo.Span, added int, a install.Assignment, ods []float64, hint string) {
+	pack := func(sp *geo.Span, added int, a install.Assignment, ods []float64, legs []string, hint string) {
 		if a.Err != nil {
 			e.Warnings = append(e.Warnings, fmt.Sprintf("span %s: duct fill: %v", sp.ID, a.Err))
 			return
@@ -737,7 +755,7 @@ func (r *run) ductFill() {
 				continue
 			}
 			e.Fill = append(e.Fill, DuctFill{Span: sp.ID, PathwayID: sp.PathwayID, Duct: d + 1, Added: d >= added,
-				DuctIDMM: sp.DuctMM, CablesODMM: df.CablesODMM, Innerduct: design.Innerduct(), FillPct: df.Pct, AllowedPct: df.AllowedPct,
+				DuctIDMM: sp.DuctMM, CablesODMM: df.CablesODMM, Legs: legsIn(a, legs, d), Innerduct: design.Innerduct(), FillPct: df.Pct, AllowedPct: df.AllowedPct,
 				OK: df.OK && !df.JamRisk, JamRatio: df.JamRatio, JamRisk: df.JamRisk})
 		}
 		if a.Unplaced > 0 {
@@ -750,7 +768,7 @@ func (r *run) ductFill() {
 				}
 			}
 			e.Fill = append(e.Fill, DuctFill{Span: sp.ID, PathwayID: sp.PathwayID, DuctIDMM: sp.DuctMM, CablesODMM: left,
-				Innerduct: design.Innerduct(), Unplaced: true})
+				Legs: legsIn(a, legs, -1), Innerduct: design.Innerduct(), Unplaced: true})
 		}
 	}
 	// Every span of limited capacity, new construction among them: its ducts are the spare
@@ -762,14 +780,14 @@ func (r *run) ductFill() {
 	for _, f := range r.Fill {
 		if f.Limited {
 			sp, _ := r.Site.Net.Span(f.Span)
-			ods := cables(f.Span, f.Links)
+			ods, legs := cables(f.Span, f.Links)
 			bank := install.DuctBank{Ducts: f.Ducts + f.AddedDucts, IDMM: sp.DuctMM}
 			hint := ""
 			if sp.Status == geo.StatusProposed {
 				r.newDucts[f.Span] = f.AddedDucts
 				hint = "; each too large for an empty duct (one cable: 53 % fill)"
 			}
-			pack(&sp, f.Ducts, bank.Pull(ods), ods, hint)
+			pack(&sp, f.Ducts, bank.Pull(ods), ods, legs, hint)
 		}
 	}
 }

@@ -14,6 +14,7 @@ import (
 	"spanwright/media/install"
 	"spanwright/route"
 	"spanwright/route/escape"
+	"spanwright/route/estimate"
 	"spanwright/route/routing"
 	"spanwright/route/workbook"
 )
@@ -188,7 +189,7 @@ func UnitsOf(opt WriteOptions) Units {
 func (u Units) Rounded(m float64, decimals int) float64 { return roundHalfAway(u.M(m), decimals) }
 
 // bomXLSX renders bom.xlsx: sheets summary, links (the cable schedule), bill of materials,
-// pull sections, duct fill, loss budgets and safety (the plan's cautions). Extended prices, subtotals, markups, the
+// pull sections, structures (StructuresOf), duct fill, loss budgets and safety (the plan's cautions). Extended prices, subtotals, markups, the
 // total and the budget check are formulas, so a changed unit price or quantity moves
 // them. Physical quantities are numbers with their unit in the header.
 func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptions) error {
@@ -210,7 +211,8 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 		workbook.Column{Name: "highest pull", Unit: u.Force}, workbook.Column{Name: "rated pull", Unit: u.Force},
 		workbook.Column{Name: "model cost", Unit: cur}, workbook.Column{Name: "feasible"}, workbook.Column{Name: "note"},
 		workbook.Column{Name: "from entrance"}, workbook.Column{Name: "to entrance"}, workbook.Column{Name: "buildings crossed"},
-		workbook.Column{Name: "turns at added handholes"}, workbook.Column{Name: "reason code"})
+		workbook.Column{Name: "turns at added handholes"}, workbook.Column{Name: "reason code"},
+		workbook.Column{Name: "jacket colour"}, workbook.Column{Name: "cable labels"})
 	links.Filter = true
 	bom := wb.AddSheet("bill of materials", workbook.Column{Name: "category"}, workbook.Column{Name: "item"},
 		workbook.Column{Name: "unit"}, workbook.Column{Name: "quantity"}, workbook.Column{Name: "unit price", Unit: cur},
@@ -226,12 +228,18 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 		workbook.Column{Name: "sidewall pressure", Unit: u.SWBP}, workbook.Column{Name: "added at from"},
 		workbook.Column{Name: "added at to"}, workbook.Column{Name: "within rating"}, workbook.Column{Name: "reason"})
 	pulls.Filter = true
+	structs := wb.AddSheet("structures",
+		workbook.Column{Name: "mark"}, workbook.Column{Name: "structure"}, workbook.Column{Name: "status"},
+		workbook.Column{Name: "type"}, workbook.Column{Name: "purpose"}, workbook.Column{Name: "longitude", Unit: "deg"},
+		workbook.Column{Name: "latitude", Unit: "deg"}, workbook.Column{Name: "legs through it"})
+	structs.Filter = true
 	fill := wb.AddSheet("duct fill",
 		workbook.Column{Name: "span"}, workbook.Column{Name: "pathway"}, workbook.Column{Name: "duct"},
 		workbook.Column{Name: "added"}, workbook.Column{Name: "duct ID", Unit: u.Diameter}, workbook.Column{Name: "cables"},
 		workbook.Column{Name: odsHeader(r), Unit: u.Diameter}, workbook.Column{Name: "fill", Unit: "%"},
 		workbook.Column{Name: "NFPA 70 limit", Unit: "%"}, workbook.Column{Name: "jam ratio 1.05 D/d"},
-		workbook.Column{Name: "in jam band 2.8-3.2"}, workbook.Column{Name: "ok"})
+		workbook.Column{Name: "in jam band 2.8-3.2"}, workbook.Column{Name: "ok"},
+		workbook.Column{Name: "legs (one per cable)"}, workbook.Column{Name: "pulling note"})
 	fill.Filter = true
 	loss := wb.AddSheet("loss budgets",
 		workbook.Column{Name: "link"}, workbook.Column{Name: "leg"}, workbook.Column{Name: "medium"},
@@ -409,7 +417,7 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 		if !l.Feasible {
 			cells = append(cells, make([]workbook.Cell, 18)...)
 			cells = append(cells, workbook.Cents(l.Cost.TotalCents()), workbook.Bool(false), workbook.Text(InUnits(opt, l.Reason)))
-			links.Append(append(cells, passage(r, l)...)...)
+			links.Append(append(append(cells, passage(r, l)...), workbook.Blank(), workbook.Blank())...)
 			continue
 		}
 		hi := hiOf[i]
@@ -421,7 +429,7 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 			workbook.Int(int64(t.Joins)), workbook.Text(ReelsText(opt, t.ReelsM)), workbook.Text(SplicesText(opt, t.Splices)),
 			workbook.Int(int64(pullsOf[i])), workbook.Number(u.N(hi), 1), workbook.Number(u.N(rated), 1),
 			workbook.Cents(l.Cost.TotalCents()), workbook.Bool(true), workbook.Text(InUnits(opt, l.Reason)))
-		links.Append(append(cells, passage(r, l)...)...)
+		links.Append(append(append(cells, passage(r, l)...), workbook.Text(JacketText(r, l)), workbook.Text(strings.Join(CableLabels(r, i), " ")))...)
 	}
 	for _, p := range r.Estimate.Pulls {
 		l := &r.Legs[p.Leg]
@@ -431,6 +439,15 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 			workbook.Number(u.M(p.BendRadiusM), 2), workbook.Number(u.N(p.TensionN), 1), workbook.Number(u.N(p.OtherN), 1),
 			workbook.Number(u.N(p.RatedN), 1), workbook.Number(100*p.TensionN/p.RatedN, 1), workbook.Number(u.NPerM(p.SWBPNPerM), 1),
 			workbook.Bool(p.AddedFrom), workbook.Bool(p.AddedTo), workbook.Bool(p.WithinRating), workbook.Text(install.Why(p.Over, PullUnits(opt))))
+	}
+	sts, err := StructuresOf(r)
+	if err != nil {
+		return err
+	}
+	for _, st := range sts {
+		structs.Append(workbook.Int(int64(st.Mark)), workbook.Text(st.Place(func(m float64) string { return LengthText(opt, m) })),
+			workbook.Text(st.Status), workbook.Text(st.Type), workbook.Text(st.Purpose), workbook.Number(st.Point[0], 7),
+			workbook.Number(st.Point[1], 7), workbook.Text(listCell(st.Legs, "plan.gpkg's structures layer")))
 	}
 	for _, f := range r.Estimate.Fill {
 		ods := make([]string, len(f.CablesODMM))
@@ -447,7 +464,8 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 		}
 		fill.Append(workbook.Text(f.Span), workbook.Text(f.PathwayID), duct, workbook.Bool(f.Added),
 			workbook.Number(u.MM(f.DuctIDMM), 2), workbook.Int(int64(len(f.CablesODMM))), workbook.Text(strings.Join(ods, " ")),
-			pct, limit, jam, workbook.Bool(f.JamRisk), workbook.Bool(f.OK))
+			pct, limit, jam, workbook.Bool(f.JamRisk), workbook.Bool(f.OK), workbook.Text(strings.Join(f.Legs, " ")),
+			workbook.Text(ductNote(f)))
 	}
 	for i := range r.Legs {
 		l := &r.Legs[i]
@@ -476,6 +494,34 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 
 // SheetSafety is the name of bom.xlsx's sheet of safety cautions.
 const SheetSafety = "safety"
+
+// ductNote is what an installer is told of a duct of the duct fill: that too many separate
+// cables are pulled into it (install.CrowdedNote); "" for none or for cables that fit no duct.
+func ductNote(f estimate.DuctFill) string {
+	if f.Unplaced {
+		return ""
+	}
+	return install.CrowdedNote(len(f.CablesODMM), f.Innerduct)
+}
+
+// listCell is ids separated by spaces for a workbook cell: when they do not fit one cell
+// (xlCellChars) it keeps as many whole ids as fit and says how many more the file named
+// lists, as fromCell does.
+func listCell(ids []string, where string) string {
+	text := strings.Join(ids, " ")
+	if utf8.RuneCountInString(text) <= xlCellChars {
+		return text
+	}
+	n, kept := 0, 0
+	for _, id := range ids {
+		if n+utf8.RuneCountInString(id)+1 > xlCellChars {
+			break
+		}
+		n += utf8.RuneCountInString(id) + 1
+		kept++
+	}
+	return fmt.Sprintf("%s and %d more, all in %s", strings.Join(ids[:kept], " "), len(ids)-kept, where)
+}
 
 // passage is the links sheet's last cells of a leg, as text: links.csv's last columns (see
 // passageText), then the reason code.

@@ -134,7 +134,7 @@ func TestBOMWorkbook(t *testing.T) {
 				t.Fatal(err)
 			}
 			defer x.Close()
-			want := []string{"summary", "links", "bill of materials", "pull sections", "duct fill", "loss budgets", SheetSafety}
+			want := []string{"summary", "links", "bill of materials", "pull sections", "structures", "duct fill", "loss budgets", SheetSafety}
 			if got := x.Sheets(); fmt.Sprint(got) != fmt.Sprint(want) {
 				t.Fatalf("sheets: got %v, want %v", got, want)
 			}
@@ -351,7 +351,7 @@ print(wb["summary"]["B%d" % (21 + len(cats) - 4)].value)
 		t.Fatalf("openpyxl: %v\n%s", err, out)
 	}
 	b := r.Estimate.BOM
-	want := fmt.Sprintf("['summary', 'links', 'bill of materials', 'pull sections', 'duct fill', 'loss budgets', 'safety']\n%d %d\n='bill of materials'!F%d\n",
+	want := fmt.Sprintf("['summary', 'links', 'bill of materials', 'pull sections', 'structures', 'duct fill', 'loss budgets', 'safety']\n%d %d\n='bill of materials'!F%d\n",
 		len(b.Lines), b.TotalCents, len(b.Lines)+1+1+len(b.Subtotal)+5)
 	if string(out) != want {
 		t.Errorf("openpyxl read:\n%s\nwant:\n%s", out, want)

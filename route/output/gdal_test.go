@@ -113,13 +113,26 @@ func TestGeoPackageGDAL(t *testing.T) {
 	for _, m := range layer.FindAllStringSubmatch(text, -1) {
 		got[m[1]] = m[2] + " " + m[3] + " EPSG:" + m[4]
 	}
+	// Existing structures a feasible leg passes, counted from the legs' junctions.
+	passed := map[string]bool{}
+	for i := range r.Legs {
+		if r.Legs[i].Feasible {
+			for _, j := range r.Site.JunctionsOf(r.Legs[i].Steps) {
+				if r.Site.IsStructure(j) {
+					passed[j] = true
+				}
+			}
+		}
+	}
+	added := len(r.Handholes) + len(r.Estimate.Construction.RunHandholes) + r.Estimate.AddedPullPoints
 	want := map[string]string{
-		LayerLegs:         "Line String " + strconv.Itoa(len(r.Legs)) + " EPSG:4326",
-		LayerSpans:        "Line String " + strconv.Itoa(len(r.Fill)) + " EPSG:4326",
-		LayerConstruction: "Line String " + strconv.Itoa(works) + " EPSG:4326",
-		LayerStructures:   "Point " + strconv.Itoa(len(r.Handholes)+len(r.Estimate.Construction.RunHandholes)+r.Estimate.AddedPullPoints) + " EPSG:4326",
-		LayerBuildings:    "Multi Polygon " + strconv.Itoa(len(r.Site.Campus.Buildings)) + " EPSG:4326",
-		LayerEntrances:    "Point " + strconv.Itoa(len(r.Site.Net.Entrances)) + " EPSG:4326",
+		LayerAllStructures: "Point " + strconv.Itoa(added+len(passed)) + " EPSG:4326",
+		LayerLegs:          "Line String " + strconv.Itoa(len(r.Legs)) + " EPSG:4326",
+		LayerSpans:         "Line String " + strconv.Itoa(len(r.Fill)) + " EPSG:4326",
+		LayerConstruction:  "Line String " + strconv.Itoa(works) + " EPSG:4326",
+		LayerStructures:    "Point " + strconv.Itoa(added) + " EPSG:4326",
+		LayerBuildings:     "Multi Polygon " + strconv.Itoa(len(r.Site.Campus.Buildings)) + " EPSG:4326",
+		LayerEntrances:     "Point " + strconv.Itoa(len(r.Site.Net.Entrances)) + " EPSG:4326",
 	}
 	for name, w := range want {
 		if got[name] != w {

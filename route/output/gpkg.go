@@ -13,6 +13,7 @@ import (
 	"spanwright/geo"
 	"spanwright/geo/gpkgout"
 	"spanwright/route"
+	"spanwright/route/estimate"
 	"spanwright/route/fileset"
 	"spanwright/route/internal/ctxio"
 	"spanwright/route/items"
@@ -25,6 +26,7 @@ const (
 	LayerSpans         = "spans"
 	LayerConstruction  = "new_construction"
 	LayerStructures    = "added_structures"
+	LayerAllStructures = "structures"
 	LayerBuildings     = "buildings"
 	LayerEntrances     = "entrances"
 	geoPackageFileName = "plan.gpkg"
@@ -104,6 +106,17 @@ func gpkgLayers() []gpkgout.Layer {
 				c("span", tx, "span id of a pull point on a span"), c("at_m", re, "its distance from the span's from end, metres"),
 				c("purpose", tx, "join (an opened pathway joins there), tap (a counted lateral taps the side of a duct), turn (a route turns between pathways), run (along new construction, at the design's spacing or bend budget) or pull (the pulling plan needs a pull point); one row per junction, under the first of join, tap and turn that it is for"),
 				c("links_text", tx, "links whose legs turn, tap or are pulled there, joined by |"),
+			}},
+		{Name: LayerAllStructures, Geometry: gpkgout.Point,
+			Description: "the structures table: handholes the plan adds, then the existing structures its legs pass, numbered as on the report's map",
+			Columns: []gpkgout.Column{
+				c("mark", in, "the structure's number on the report's map and in bom.xlsx's structures sheet"),
+				c("structure", tx, "structure or junction id; none for a handhole on a span or lateral"),
+				c("span", tx, "for a handhole on a span: the span id (a lateral's: lateral of and its entrance)"),
+				c("at_m", re, "its distance from the span's from end (a lateral's building end), metres"),
+				c("status", tx, "existing or to build"), c("type", tx, "maintenance-hole, handhole or pull-box; to build: handhole"),
+				c("purpose", tx, "to build: join, tap, turn, run or pull (as added_structures); existing: slack loop, pull point (both joined by a comma) or passed"),
+				c("legs_text", tx, "legs through it, link/leg, joined by |"),
 			}},
 		{Name: LayerBuildings, Geometry: gpkgout.MultiPolygon,
 			Description: "every building of the campus",
@@ -353,6 +366,16 @@ func planLayers(ctx context.Context, r *route.Result) ([]gpkgout.Layer, error) {
 		add(LayerStructures, sp.PointAt(p.offM), nil, p.span, round1(p.offM), PurposePull, ListText(p.links))
 	}
 
+	// The structures table.
+	sts, err := StructuresOf(r)
+	if err != nil {
+		return nil, err
+	}
+	for _, st := range sts {
+		add(LayerAllStructures, st.Point, st.Mark, optional(st.ID, st.ID != ""), optional(st.Span, st.Span != ""),
+			optional(round1(st.AtM), st.Span != ""), st.Status, st.Type, st.Purpose, ListText(st.Legs))
+	}
+
 	// Buildings and their entrances.
 	for _, b := range r.Site.Campus.Buildings {
 		es := net.EntrancesOf(b.ID)
@@ -404,6 +427,7 @@ type pullPoint struct {
 	junction, span string
 	offM           float64
 	links          []string
+	legs           []string // the legs pulled there, "link/leg" (routing.Leg.Label), in leg order
 	// lateral: the point is on a counted lateral (drawn as lat), offM metres from its
 	// building; span is then "lateral of" and the entrance.
 	lateral bool
@@ -424,6 +448,17 @@ func addedPullPoints(r *route.Result) []pullPoint {
 		m              float64
 	}
 	byKey := map[key]*pullPoint{}
+	isJunction := func(id string) bool {
+		_, ok := r.Site.Net.Junction(id)
+		return id != "" && ok
+	}
+	// endOf is the pull point of section p at x: its From at its start, else its To.
+	endOf := func(p estimate.PullSection, x float64) estimate.PullPoint {
+		if x == p.StartM {
+			return p.From
+		}
+		return p.To
+	}
 	var keys []key
 	// A leg's junctions, spans and distances along it, for the pulls of one leg after the
 	// other (pulls come in leg order, a leg's sections together): worked out once per leg.
@@ -478,6 +513,10 @@ func addedPullPoints(r *route.Result) []pullPoint {
 					off = spans[q].lengthM - off
 				}
 				k, pp.span, pp.offM = key{span: spans[q].id, m: math.Round(off)}, spans[q].id, off
+			} else if pt := endOf(p, end.x); isJunction(pt.ID) {
+				// The end of the leg's spans where a counted lateral pulled with the leg
+				// (estimate.PullSection.Lateral) joins them: a junction, as the bill counts it.
+				k, pp.junction = key{junction: pt.ID}, pt.ID
 			} else {
 				continue // a building: never an added point
 			}
@@ -489,6 +528,9 @@ func addedPullPoints(r *route.Result) []pullPoint {
 			}
 			if n := len(at.links); n == 0 || at.links[n-1] != l.Link.ID {
 				at.links = append(at.links, l.Link.ID) // pulls come in leg order, a link's legs together
+			}
+			if n := len(at.legs); n == 0 || at.legs[n-1] != l.Label() {
+				at.legs = append(at.legs, l.Label())
 			}
 		}
 	}

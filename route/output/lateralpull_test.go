@@ -50,4 +50,28 @@ func TestAddedPullPointOnLateral(t *testing.T) {
 			t.Errorf("pull point %+v at %v, want on U's lateral (x = 100 m) between its ends", p, got)
 		}
 	}
+	// The structures table lists every added pull point the bill counts as a handhole to
+	// build where added_structures places it, with the leg pulled there: J0002 too, where the
+	// lateral joins E (added_structures left it out before: the end of the leg's spans was
+	// taken for a building).
+	sts, err := StructuresOf(r)
+	if err != nil {
+		t.Fatal(err)
+	}
+	pulls := 0
+	for _, st := range sts {
+		if st.Status != StructureToBuild || st.Purpose != PurposePull {
+			continue
+		}
+		pulls++
+		if (st.ID == "") == (st.Span == "") || len(st.Legs) != 1 || st.Legs[0] != leg.Label() {
+			t.Errorf("structure %+v: want a handhole at a junction or on a span or lateral, through %s", st, leg.Label())
+		}
+		if st.Span == "lateral of "+leg.EntranceTo && st.Point != geo.Rounded(on[0].lat.PointAt(st.AtM)) {
+			t.Errorf("structure %d at %v, not on U's lateral", st.Mark, st.Point)
+		}
+	}
+	if pulls != r.Estimate.AddedPullPoints || pulls == 0 {
+		t.Errorf("%d pull points in the structures table, the bill counts %d", pulls, r.Estimate.AddedPullPoints)
+	}
 }

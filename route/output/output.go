@@ -290,6 +290,7 @@ func linksCSV(out io.Writer, r *route.Result, opt WriteOptions) error {
 	// Appended after reason, so that no column before them moves.
 	head = append(head, passageHead...)
 	head = append(head, "reason_code")
+	head = append(head, scheduleHead(opt)...)
 	w.Write(head)
 	db := func(x float64) string { return strconv.FormatFloat(x, 'f', 2, 64) }
 	for i := range r.Legs {
@@ -321,7 +322,8 @@ func linksCSV(out io.Writer, r *route.Result, opt WriteOptions) error {
 		row = append(row, media.FormatCents(c.TotalCents()), media.FormatCents(c.CableCents), media.FormatCents(c.LabourCents),
 			media.FormatCents(c.ConstructionCents), media.FormatCents(c.OpticsCents), InUnits(opt, l.Explain()))
 		row = append(row, passageText(l, tr)...)
-		w.Write(append(row, l.ReasonCode))
+		row = append(row, l.ReasonCode)
+		w.Write(append(row, scheduleText(opt, r, i)...))
 	}
 	return w.Flush()
 }

@@ -62,6 +62,7 @@ type countLabel struct {
 	X, Y  string
 	Text  string
 	Title string
+	at    xy // where it is drawn, for the labels placed after it
 }
 
 type scaleBar struct {
@@ -96,10 +97,13 @@ type mapView struct {
 	Carriers []svgPath
 	// Works are the new construction, drawn over the routes: opened proposed spans and the
 	// trench or bore for ducts added beside existing spans, by method.
-	Works     []svgPath
-	Counts    []countLabel // the number of cables in each span that carries any
-	Entrances []mark       // every way into every building, at its junction
-	Crossed   bool         // some building is drawn as one a route passes through
+	Works  []svgPath
+	Counts []countLabel // the number of cables in each span that carries any
+	// Keys are the structures' numbers (output.Structure.Mark), beside their marks, keyed to
+	// the structures table; those that would crowd another label are left out.
+	Keys      []countLabel
+	Entrances []mark // every way into every building, at its junction
+	Crossed   bool   // some building is drawn as one a route passes through
 	Scale     scaleBar
 	NorthX    string
 	NorthY    string
@@ -142,7 +146,7 @@ func structureShape(t string) string {
 }
 
 // buildMap draws the campus and the result's feasible legs.
-func buildMap(ctx context.Context, r *route.Result, opt Options, med map[string]mediumInfo) (mapView, error) {
+func buildMap(ctx context.Context, r *route.Result, opt Options, med map[string]mediumInfo, sts []output.Structure) (mapView, error) {
 	c, net := r.Site.Campus, r.Site.Net
 	var b bounds
 	for _, bd := range c.Buildings {
@@ -176,6 +180,7 @@ func buildMap(ctx context.Context, r *route.Result, opt Options, med map[string]
 	m := mapView{W: num(p.widthPx), H: num(p.heightPx), Empty: !b.any}
 
 	ps := passagesOf(r)
+	var taken []xy // the labels placed: buildings', then structures' numbers
 	for _, bd := range c.Buildings {
 		var d strings.Builder
 		var best xy
@@ -210,6 +215,9 @@ func buildMap(ctx context.Context, r *route.Result, opt Options, med map[string]
 			cls += " crossed"
 			m.Crossed = true
 			title += "; routes pass through it: " + strings.Join(legs, ", ")
+		}
+		if bestA >= 0 {
+			taken = append(taken, xy{X: best.X, Y: best.Y})
 		}
 		m.Buildings = append(m.Buildings, buildingShape{
 			svgPath: svgPath{D: d.String(), Class: cls, Title: title},
@@ -300,7 +308,7 @@ func buildMap(ctx context.Context, r *route.Result, opt Options, med map[string]
 			}
 		}
 		mi := med[l.Medium]
-		m.Routes = append(m.Routes, routePath{D: d, Stroke: mi.Hex, Dash: mi.Dash, Leg: l.Link.ID + "/" + l.Name, Medium: l.Medium,
+		m.Routes = append(m.Routes, routePath{D: d, Stroke: mi.Hex, Dash: mi.Dash, Leg: l.Label(), Medium: l.Medium,
 			Title: fmt.Sprintf("%s %s leg, %s to %s: %s (%s), %s", l.Link.ID, l.Name, l.Link.From, l.Link.To, mi.Label, mi.ColourLabel, opt.lengthU(l.RouteM))})
 	}
 	m.Carriers, m.Works, m.Counts = overRoutes(r, p, opt)
@@ -365,6 +373,27 @@ func buildMap(ctx context.Context, r *route.Result, opt Options, med map[string]
 		m.Turns = append(m.Turns, mark{X: num(q.X), Y: num(q.Y), Shape: "square", Class: "st turn",
 			Title: id + ": handhole to add, where " + strings.Join(why(id), "; ")})
 	}
+	// The handholes to build that no mark above draws (along new construction, pull points),
+	// then every structure's number.
+	drawnAt := map[string]bool{}
+	for _, id := range ps.turnIDs {
+		drawnAt[id] = true
+	}
+	for _, id := range rest {
+		drawnAt[id] = true
+	}
+	for _, st := range sts {
+		if st.Status != output.StructureToBuild || (st.ID != "" && drawnAt[st.ID]) {
+			continue
+		}
+		q := p.at(st.Point[0], st.Point[1])
+		m.Turns = append(m.Turns, mark{X: num(q.X), Y: num(q.Y), Shape: "square", Class: "st turn",
+			Title: st.Place(opt.lengthU) + ": handhole to add, " + purposeWords(st.Purpose)})
+	}
+	for _, c := range m.Counts {
+		taken = append(taken, c.at)
+	}
+	m.Keys = structureKeys(sts, p, taken, opt.lengthU)
 	for _, e := range net.Entrances {
 		j, ok := net.Junction(e.Junction)
 		if !ok {
@@ -528,6 +557,10 @@ func (m mapView) HTML() template.HTML {
 	for _, bd := range m.Buildings {
 		w(`<text x="`, t(bd.LabelX), `" y="`, t(bd.LabelY), `" class="`, t(bd.LabelCls), `" text-anchor="middle">`, t(bd.ID), `</text>`)
 	}
+	w("</g>\n", `<g class="keys">`)
+	for _, k := range m.Keys {
+		w(`<text x="`, t(k.X), `" y="`, t(k.Y), `" class="key">`, t(k.Text), `<title>`, t(k.Title), `</title></text>`)
+	}
 	w("</g>\n", `<g class="counts">`)
 	for _, c := range m.Counts {
 		w(`<text x="`, t(c.X), `" y="`, t(c.Y), `" class="cnt" text-anchor="middle" dy="3.5">`, t(c.Text), `<title>`, t(c.Title), `</title></text>`)
@@ -640,7 +673,7 @@ func overRoutes(r *route.Result, p *projection, opt Options) (carriers, works []
 			word = "cable"
 		}
 		counts = append(counts, countLabel{X: num(c.px.X), Y: num(c.px.Y), Text: strconv.Itoa(c.n),
-			Title: fmt.Sprintf("%s: %d %s", c.spanID, c.n, word)})
+			Title: fmt.Sprintf("%s: %d %s", c.spanID, c.n, word), at: c.px})
 	}
 	return carriers, works, counts
 }
@@ -664,4 +697,53 @@ func midpoint(px []xy) (xy, float64) {
 		return xy{}, 0
 	}
 	return px[len(px)-1], total
+}
+
+// Structure number labels: placed up and to the right of the mark, and left out within
+// keyGapPx of a label already placed (a building's, a cable count or another number), the handholes to build
+// first (output.StructuresOf's order). Common practice, no published source.
+const (
+	keyDXPx  = 6.0
+	keyDYPx  = -6.0
+	keyGapPx = 11.0
+)
+
+// structureKeys places the structures' numbers on the map, avoiding the labels taken.
+func structureKeys(sts []output.Structure, p *projection, taken []xy, length func(m float64) string) []countLabel {
+	var out []countLabel
+	for _, st := range sts {
+		q := p.at(st.Point[0], st.Point[1])
+		at := xy{X: q.X + keyDXPx, Y: q.Y + keyDYPx}
+		near := false
+		for _, o := range taken {
+			if dx, dy := o.X-at.X, o.Y-at.Y; dx*dx+dy*dy < keyGapPx*keyGapPx {
+				near = true
+				break
+			}
+		}
+		if near {
+			continue
+		}
+		taken = append(taken, at)
+		out = append(out, countLabel{X: num(at.X), Y: num(at.Y), Text: strconv.Itoa(st.Mark),
+			Title: strconv.Itoa(st.Mark) + ": " + st.Place(length) + " (" + st.Status + ")"})
+	}
+	return out
+}
+
+// purposeWords says in words why a handhole is built (output.Structure.Purpose).
+func purposeWords(purpose string) string {
+	switch purpose {
+	case output.PurposeJoin:
+		return "where new pathway joins the network"
+	case output.PurposeTap:
+		return "where a lateral taps a duct"
+	case output.PurposeTurn:
+		return "where a route turns between pathways"
+	case output.PurposeRun:
+		return "along new construction (handhole spacing or bend budget)"
+	case output.PurposePull:
+		return "an intermediate pull point"
+	}
+	return purpose
 }

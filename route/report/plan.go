@@ -143,6 +143,8 @@ type ductRow struct {
 	JamRisk       bool
 	Over          bool
 	Bad           bool
+	Legs          string // the legs of its cables, one per cable (estimate.DuctFill.Legs)
+	Note          string // too many separate cables for sound pulls (install.CrowdedNote)
 }
 
 type pullRow struct {
@@ -162,6 +164,16 @@ type pullRow struct {
 	Added     string
 	Over      bool
 	Reason    string
+}
+
+// structureRow is a row of the structures table (output.Structure).
+type structureRow struct {
+	Mark                  int
+	Place                 string
+	Status, Type, Purpose string
+	Lon, Lat              string
+	Legs                  string
+	ToBuild               bool
 }
 
 type driverRow struct {
@@ -213,17 +225,20 @@ type planView struct {
 	Ducts      []ductRow
 	DuctsOver  int
 	NoDuct     string // how many cables fit no duct of their span (estimate.DuctFill.Unplaced), "" for none
-	HasEst     bool
-	Pulls      []pullRow
-	PullsOver  int
-	PullPoints int
-	Force      string
-	Sidewall   string // the unit of sidewall pressure: N/m, or lbf/ft when imperial
-	Diameter   string // the unit of duct and cable diameters: mm, or in when imperial
-	Drivers    []driverRow
-	BOMLabel   string
-	Subtotal   string
-	ModelCost  string
+	// Crowded counts the ducts given more separate cables than sound pulls allow
+	// (install.Crowded), of every duct, listed or not; Separate is that number of cables.
+	Crowded, Separate int
+	HasEst            bool
+	Pulls             []pullRow
+	PullsOver         int
+	PullPoints        int
+	Force             string
+	Sidewall          string // the unit of sidewall pressure: N/m, or lbf/ft when imperial
+	Diameter          string // the unit of duct and cable diameters: mm, or in when imperial
+	Drivers           []driverRow
+	BOMLabel          string
+	Subtotal          string
+	ModelCost         string
 	// Bound and Gap are the optimizer's proved lower bound on its objective and the gap of the
 	// routes to it in percent (output.Summary.LowerBoundCents, GapPct, as output.GapText
 	// prints it); Bound is "" without a bound.
@@ -240,8 +255,10 @@ type planView struct {
 	// PHYs names the IEEE 802.3 applications the feasible legs use, sorted, for the sources.
 	PHYs                              string
 	CautionsPreamble, CautionsClosing string
+	// Structures is the structures table (output.StructuresOf), keyed to the map's numbers.
+	Structures []structureRow
 	// How much of each detail table is listed (DetailRows).
-	LegsListed, PullsListed, DuctsListed, FillListed listed
+	LegsListed, PullsListed, DuctsListed, FillListed, StructuresListed listed
 }
 
 // DetailRows is the most rows a detail table of the plan report lists: the links, the pull
@@ -503,8 +520,11 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 		for _, f := range e.Fill {
 			if f.Unplaced {
 				noDuct += len(f.CablesODMM)
+			} else if install.Crowded(len(f.CablesODMM), f.Innerduct) {
+				v.Crowded++
 			}
 		}
+		v.Separate = install.SeparateCablesPerDuct
 		switch {
 		case noDuct == 1:
 			v.NoDuct = "1 cable fits no duct of its span"
@@ -534,7 +554,12 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
-	m, err := buildMap(ctx, r, opt, med)
+	sts, err := output.StructuresOf(r)
+	if err != nil {
+		return nil, err
+	}
+	v.Structures, v.StructuresListed = structureRows(sts, opt)
+	m, err := buildMap(ctx, r, opt, med, sts)
 	if err != nil {
 		return nil, err
 	}
@@ -548,6 +573,26 @@ func abs(x float64) float64 {
 		return -x
 	}
 	return x
+}
+
+// structureLegs is the most legs a row of the structures table names; the rest are counted,
+// and bom.xlsx's structures sheet names every one. Common practice, no published source.
+const structureLegs = 12
+
+// structureRows is the structures table, as many rows as DetailRows lists.
+func structureRows(sts []output.Structure, opt Options) ([]structureRow, listed) {
+	shown := listOf(len(sts))
+	out := make([]structureRow, shown.Shown)
+	for i, st := range sts[:shown.Shown] {
+		legs := strings.Join(st.Legs[:min(len(st.Legs), structureLegs)], ", ")
+		if n := len(st.Legs) - structureLegs; n > 0 {
+			legs += fmt.Sprintf(" and %d more", n)
+		}
+		out[i] = structureRow{Mark: st.Mark, Place: st.Place(opt.lengthU), Status: st.Status, Type: st.Type, Purpose: st.Purpose,
+			Lon: strconv.FormatFloat(st.Point[0], 'f', 7, 64), Lat: strconv.FormatFloat(st.Point[1], 'f', 7, 64), Legs: legs,
+			ToBuild: st.Status == output.StructureToBuild}
+	}
+	return out, shown
 }
 
 // costBars is the cost-by-category chart: the legs' cable, labour, construction and optics,
@@ -909,7 +954,10 @@ func legendOf(r *route.Result, med map[string]mediumInfo, order []string, m mapV
 		lg.Structures = append(lg.Structures, legendItem{Shape: structureShape(t), Class: "st", Label: t})
 	}
 	if len(m.Turns) > 0 {
-		lg.Structures = append(lg.Structures, legendItem{Shape: "square", Class: "st turn", Label: "handhole to add (a route turns between pathways, new pathway joins, or a lateral taps a duct)"})
+		lg.Structures = append(lg.Structures, legendItem{Shape: "square", Class: "st turn", Label: "handhole to add (a route turns between pathways, new pathway joins, a lateral taps a duct, along new construction, or a pull point)"})
+	}
+	if len(m.Keys) > 0 {
+		lg.Structures = append(lg.Structures, legendItem{Shape: "key", Class: "key", Label: "structure number, keyed to the structures table (numbers that would crowd a label are left out)"})
 	}
 	if len(m.Entrances) > 0 {
 		lg.Structures = append(lg.Structures, legendItem{Shape: "dot", Class: "ent", Label: "building entrance"})
@@ -997,6 +1045,10 @@ func ductRows(fs []estimate.DuctFill, opt Options) ([]ductRow, int, listed) {
 			BarW: num(w), LimitX: num(math.Min(f.AllowedPct, 100)), Over: f.FillPct > f.AllowedPct, JamRisk: f.JamRisk, Bad: !f.OK}
 		if f.JamRatio > 0 {
 			row.Jam = strconv.FormatFloat(f.JamRatio, 'f', 2, 64)
+		}
+		row.Legs = strings.Join(f.Legs, ", ")
+		if !f.Unplaced {
+			row.Note = install.CrowdedNote(len(f.CablesODMM), f.Innerduct)
 		}
 		if f.Unplaced {
 			row.Fill, row.Allowed, row.BarW, row.LimitX = "fit no duct", "", num(0), num(0)
@@ -1152,6 +1204,10 @@ func (d ductRow) HTML() template.HTML {
 	p.w(`<td class="n">`, t(d.Jam))
 	if d.JamRisk {
 		p.w(" <b>jam risk</b>")
+	}
+	p.w("</td><td>", t(d.Legs))
+	if d.Note != "" {
+		p.w("<br><b>", t(d.Note), "</b>")
 	}
 	p.w("</td></tr>\n")
 	return p.html()

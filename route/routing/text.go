@@ -31,6 +31,15 @@ func (l *Leg) WorstLoss() (media.Loss, bool) {
 	return w, found
 }
 
+// Label names the leg in outputs' lists: its link id and name, "ADM-LIB/diverse" (its name
+// alone when it has no link).
+func (l *Leg) Label() string {
+	if l.Link == nil {
+		return l.Name
+	}
+	return l.Link.ID + "/" + l.Name
+}
+
 // ConstructionText names the leg's cable for outputs: its construction, and with an entrance
 // transition the inside construction spliced on, as "osp-loose-tube + ofnr-riser at entrances".
 func (l *Leg) ConstructionText() string {

@@ -1,0 +1,25 @@
+package install
+
+import "fmt"
+
+// SeparateCablesPerDuct is the most cables, each pulled on its own, that one duct is given
+// before a practitioner would not pull another into it: every later pull drags its rope and
+// cable over the cables already in the duct (the rope can saw through a jacket at a bend),
+// and a duct of many loose cables can be neither sorted nor re-pulled. Past it the cables get
+// innerduct (one cable to a cell or subduct) or ducts of their own. Common practice, no
+// published source; NFPA 70 Chapter 9 Table 1 limits the fill only, not the number of pulls.
+const SeparateCablesPerDuct = 3
+
+// Crowded reports whether a duct holding cables (not each in an innerduct of its own, which
+// is pulled empty and takes one cable) holds more than SeparateCablesPerDuct.
+func Crowded(cables int, innerduct bool) bool { return !innerduct && cables > SeparateCablesPerDuct }
+
+// CrowdedNote says, as a practitioner would, why a duct of that many separate cables is not
+// a sound set of pulls; "" when it is not Crowded.
+func CrowdedNote(cables int, innerduct bool) string {
+	if !Crowded(cables, innerduct) {
+		return ""
+	}
+	return fmt.Sprintf("%d cables pulled one by one into one duct: more than %d is not a sound pull (each pull drags over the cables already in; common practice, no published source): give them innerduct or a duct of their own; fill within NFPA 70 Chapter 9 Table 1 does not make it one",
+		cables, SeparateCablesPerDuct)
+}

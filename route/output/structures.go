@@ -1,0 +1,191 @@
+package output
+
+import (
+	"fmt"
+	"slices"
+	"strings"
+
+	"github.com/paulmach/orb"
+
+	"spanwright/geo"
+	"spanwright/route"
+	"spanwright/route/estimate"
+	"spanwright/route/routing"
+)
+
+// Status of a structure in the structures table (StructuresOf).
+const (
+	StructureExisting = "existing" // on the campus; a leg passes it
+	StructureToBuild  = "to build" // a handhole the plan adds
+)
+
+// Purposes of an existing structure a leg passes: what the plan does there.
+const (
+	PurposePassed    = "passed"     // the cable only passes through
+	PurposeSlackLoop = "slack loop" // a slack loop is left there (site.Site.LoopStructure)
+	PurposePullPoint = "pull point" // a pull section starts or ends there
+)
+
+// Structure is one row of the structures table: a handhole the plan adds, or an existing
+// structure a feasible leg passes, with where it is and the legs through it. The report,
+// bom.xlsx's structures sheet and plan.gpkg's structures layer are written from these rows
+// (StructuresOf), so that a structure's mark is the same in all three.
+type Structure struct {
+	Mark int    // 1-based number, the label on the report's map
+	ID   string // the structure's or junction's id; "" for a handhole on a span or lateral
+	// Span and AtM place a handhole that stands on a span (or a counted lateral, named
+	// "lateral of" and its entrance) and not at a junction: AtM metres from the span's from
+	// end (a lateral's from its building).
+	Span   string
+	AtM    float64
+	Status string // StructureExisting or StructureToBuild
+	// Type is the structure's type (geo.Structure.Type: maintenance-hole, handhole,
+	// pull-box); a structure to build is a handhole.
+	Type string
+	// Purpose says why it is built (join, tap, turn, run or pull: the added_structures
+	// layer's purposes) or what the plan does at an existing one (slack loop, pull point,
+	// both joined by ", ", or passed).
+	Purpose string
+	Point   orb.Point // WGS84 longitude and latitude, in degrees, rounded as geo.Rounded does
+	Legs    []string  // the feasible legs through it, "link/leg", in leg order
+}
+
+// Place is where a structure is, for a person: its id, or "new handhole on SPAN at LENGTH"
+// (estimate.PullPoint.Text) with the offset written by length.
+func (s Structure) Place(length func(m float64) string) string {
+	return estimate.PullPoint{ID: s.ID, Span: s.Span, AtM: s.AtM}.Text(length)
+}
+
+// StructuresOf lists the structures of the plan: first the handholes it adds (at junctions,
+// by junction id; along new construction, by span and offset; the pulling plan's, as
+// addedPullPoints sorts them), then the existing structures its feasible legs pass, by id.
+// Marks number them in that order; rows may share their Legs, which are not to be changed.
+// The legs through a structure at a junction are those whose spans meet there; through one
+// on a span, those on the span; through a pull point on a lateral, those pulled there.
+func StructuresOf(r *route.Result) ([]Structure, error) {
+	net := r.Site.Net
+	// The junctions and spans whose legs the table names, and then those legs: only these,
+	// for a large plan's legs pass tens of thousands of others.
+	atJunction, onSpan := map[string][]string{}, map[string][]string{}
+	for _, h := range r.Handholes {
+		atJunction[h.Junction] = nil
+	}
+	for _, st := range r.Site.Campus.Structures {
+		atJunction[st.ID] = nil
+	}
+	pulls := addedPullPoints(r)
+	for _, p := range pulls {
+		switch {
+		case p.junction != "":
+			atJunction[p.junction] = nil
+		case !p.lateral:
+			onSpan[p.span] = nil
+		}
+	}
+	if r.Estimate != nil {
+		for _, h := range r.Estimate.Construction.RunHandholes {
+			onSpan[h.Span] = nil
+		}
+	}
+	// addTo appends label to m[k] when k is wanted, once per leg (a leg's labels come
+	// together).
+	addTo := func(m map[string][]string, k, label string) {
+		legs, ok := m[k]
+		if ok && (len(legs) == 0 || legs[len(legs)-1] != label) {
+			m[k] = append(legs, label)
+		}
+	}
+	for i := range r.Legs {
+		l := &r.Legs[i]
+		if !l.Feasible {
+			continue
+		}
+		label := l.Label()
+		for _, st := range l.Steps {
+			sp, ok := net.Span(st.SpanID)
+			if !ok {
+				continue
+			}
+			addTo(atJunction, sp.From, label)
+			addTo(atJunction, sp.To, label)
+			addTo(onSpan, st.SpanID, label)
+		}
+	}
+	var out []Structure
+	add := func(s Structure) {
+		s.Mark = len(out) + 1
+		s.Point = geo.Rounded(s.Point).(orb.Point)
+		if s.Legs == nil {
+			s.Legs = []string{}
+		}
+		out = append(out, s)
+	}
+	hs := slices.Clone(r.Handholes)
+	slices.SortStableFunc(hs, func(a, b routing.Handhole) int { return strings.Compare(a.Junction, b.Junction) })
+	for _, h := range hs {
+		j, ok := net.Junction(h.Junction)
+		if !ok {
+			return nil, fmt.Errorf("handhole at %s: not a junction of the network", h.Junction)
+		}
+		add(Structure{ID: h.Junction, Status: StructureToBuild, Type: geo.StructureHandhole, Purpose: h.Purpose(),
+			Point: j.Point, Legs: atJunction[h.Junction]})
+	}
+	if r.Estimate != nil {
+		for _, h := range r.Estimate.Construction.RunHandholes {
+			sp, ok := net.Span(h.Span)
+			if !ok {
+				return nil, fmt.Errorf("handhole along new construction on %s: not a span of the network", h.Span)
+			}
+			add(Structure{Span: h.Span, AtM: h.AtM, Status: StructureToBuild, Type: geo.StructureHandhole, Purpose: PurposeRun,
+				Point: sp.PointAt(h.AtM), Legs: onSpan[h.Span]})
+		}
+	}
+	for _, p := range pulls {
+		s := Structure{Status: StructureToBuild, Type: geo.StructureHandhole, Purpose: PurposePull}
+		switch {
+		case p.junction != "":
+			j, ok := net.Junction(p.junction)
+			if !ok {
+				return nil, fmt.Errorf("pull point at %s: not a junction of the network", p.junction)
+			}
+			s.ID, s.Point, s.Legs = p.junction, j.Point, atJunction[p.junction]
+		case p.lateral:
+			s.Span, s.AtM, s.Point, s.Legs = p.span, p.offM, p.lat.PointAt(p.offM), p.legs
+		default:
+			sp, ok := net.Span(p.span)
+			if !ok {
+				return nil, fmt.Errorf("pull point on %s: not a span of the network", p.span)
+			}
+			s.Span, s.AtM, s.Point, s.Legs = p.span, p.offM, sp.PointAt(p.offM), onSpan[p.span]
+		}
+		add(s)
+	}
+	// Existing structures passed, with what is done there.
+	pulled := map[string]bool{}
+	if r.Estimate != nil {
+		for _, p := range r.Estimate.Pulls {
+			pulled[p.From.ID], pulled[p.To.ID] = true, true
+		}
+	}
+	existing := slices.Clone(r.Site.Campus.Structures)
+	slices.SortStableFunc(existing, func(a, b geo.Structure) int { return strings.Compare(a.ID, b.ID) })
+	for _, st := range existing {
+		legs := atJunction[st.ID]
+		if len(legs) == 0 {
+			continue
+		}
+		var what []string
+		if r.Site.LoopStructure(st.ID) {
+			what = append(what, PurposeSlackLoop)
+		}
+		if pulled[st.ID] {
+			what = append(what, PurposePullPoint)
+		}
+		if len(what) == 0 {
+			what = append(what, PurposePassed)
+		}
+		add(Structure{ID: st.ID, Status: StructureExisting, Type: st.Type, Purpose: strings.Join(what, ", "),
+			Point: st.Point, Legs: legs})
+	}
+	return out, nil
+}

@@ -1,0 +1,163 @@
+package output
+
+import (
+	"maps"
+	"slices"
+	"strconv"
+	"strings"
+	"testing"
+
+	"spanwright/geo"
+	"spanwright/route/internal/testplan"
+)
+
+// TestStructuresOfDemo holds the structures table of the demo to the figures the bill and
+// the takeoff count on their own: one row per handhole the bill prices, the slack loops the
+// takeoff counts at existing structures, the pull sections' ends, and every existing
+// structure where the campus draws it.
+func TestStructuresOfDemo(t *testing.T) {
+	t.Parallel()
+	r := testplan.DemoResult(t)
+	sts, err := StructuresOf(r)
+	if err != nil {
+		t.Fatal(err)
+	}
+	toBuild, loops := 0, 0
+	byID := map[string]Structure{}
+	for i, st := range sts {
+		if st.Mark != i+1 {
+			t.Fatalf("row %d: mark %d", i, st.Mark)
+		}
+		if st.ID != "" {
+			byID[st.ID] = st
+		}
+		switch st.Status {
+		case StructureToBuild:
+			toBuild++
+			if i > 0 && sts[i-1].Status == StructureExisting {
+				t.Errorf("%d %s: a handhole to build after an existing structure", st.Mark, st.ID)
+			}
+		case StructureExisting:
+			if strings.Contains(st.Purpose, PurposeSlackLoop) {
+				loops += len(st.Legs)
+			}
+		default:
+			t.Errorf("%d: status %q", st.Mark, st.Status)
+		}
+		if len(st.Legs) == 0 {
+			t.Errorf("%d %s: no leg through it", st.Mark, st.Place(metresOf))
+		}
+	}
+	// As many handholes to build as the bill counts (routing.Handhole per junction, run
+	// handholes along new construction, the pulling plan's added pull points).
+	e := r.Estimate
+	if want := len(r.Handholes) + len(e.Construction.RunHandholes) + e.AddedPullPoints; toBuild != want || want == 0 {
+		t.Errorf("to build: %d rows, the bill counts %d", toBuild, want)
+	}
+	// The slack loops at existing structures: one per leg per structure passed, as the
+	// takeoff counts them (routing.CableTakeoff.Structures, bom.xlsx's structures passed, less
+	// the handholes the plan builds, AddedStructures, which are rows to build).
+	want := 0
+	for i := range r.Legs {
+		if r.Legs[i].Feasible {
+			want += r.Legs[i].Cable.Structures - r.Legs[i].Cable.AddedStructures
+		}
+	}
+	if loops != want || want == 0 {
+		t.Errorf("legs through existing structures with a slack loop: %d, the takeoff counts %d", loops, want)
+	}
+	// Every pull section's end at an existing structure is a pull point there.
+	for _, p := range e.Pulls {
+		for _, id := range []string{p.From.ID, p.To.ID} {
+			if r.Site.IsStructure(id) && !strings.Contains(byID[id].Purpose, PurposePullPoint) {
+				t.Errorf("pull %s to %s: %s not marked %q (%q)", p.From, p.To, id, PurposePullPoint, byID[id].Purpose)
+			}
+		}
+	}
+	// Existing structures where the campus draws them; turns where the legs turn.
+	for _, cs := range r.Site.Campus.Structures {
+		st, ok := byID[cs.ID]
+		if !ok {
+			continue
+		}
+		if st.Point != geo.Rounded(cs.Point) || st.Type != cs.Type {
+			t.Errorf("%s: %v %s, the campus has %v %s", cs.ID, st.Point, st.Type, cs.Point, cs.Type)
+		}
+	}
+	for i := range r.Legs {
+		l := &r.Legs[i]
+		for _, j := range l.Turns {
+			if st, ok := byID[j]; !ok || st.Status != StructureToBuild || !slices.Contains(st.Legs, l.Label()) {
+				t.Errorf("%s turns at %s: row %+v", l.Label(), j, st)
+			}
+		}
+	}
+}
+
+// metresOf writes metres with their unit, for test messages.
+func metresOf(m float64) string { return LengthText(WriteOptions{}, m) }
+
+// TestDuctLegs holds the duct assignment to the legs: on every span of the duct fill, each
+// leg on the span is named once per cable it pulls (routing.CableTakeoff.Cables), over the
+// span's ducts and its row of cables that fit none, and each duct names one leg per cable
+// whose diameter it counts.
+func TestDuctLegs(t *testing.T) {
+	t.Parallel()
+	r := testplan.DemoResult(t)
+	got := map[string]map[string]int{}
+	for _, f := range r.Estimate.Fill {
+		if len(f.Legs) != len(f.CablesODMM) {
+			t.Errorf("span %s duct %d: %d legs for %d cables", f.Span, f.Duct, len(f.Legs), len(f.CablesODMM))
+		}
+		if got[f.Span] == nil {
+			got[f.Span] = map[string]int{}
+		}
+		for _, l := range f.Legs {
+			got[f.Span][l]++
+		}
+	}
+	if len(got) == 0 {
+		t.Fatal("no duct fill")
+	}
+	want := map[string]map[string]int{}
+	for i := range r.Legs {
+		l := &r.Legs[i]
+		if !l.Feasible {
+			continue
+		}
+		for _, st := range l.Steps {
+			if got[st.SpanID] != nil {
+				if want[st.SpanID] == nil {
+					want[st.SpanID] = map[string]int{}
+				}
+				want[st.SpanID][l.Label()] += l.Cable.Cables
+			}
+		}
+	}
+	for span, on := range got {
+		if !maps.Equal(on, want[span]) {
+			t.Errorf("span %s: ducts name %v, the legs on it pull %v", span, on, want[span])
+		}
+	}
+}
+
+// TestListCell: a list longer than a workbook cell holds (Excel specifications and limits:
+// 32,767 characters in a cell) keeps whole ids and counts the rest.
+func TestListCell(t *testing.T) {
+	t.Parallel()
+	ids := make([]string, 5000)
+	for i := range ids {
+		ids[i] = "L-" + strings.Repeat("x", 10) + "/primary"
+	}
+	got := listCell(ids, "plan.gpkg")
+	if len(got) > 32767 || !strings.HasSuffix(got, " more, all in plan.gpkg") {
+		t.Fatalf("%d characters, ends %q", len(got), got[len(got)-40:])
+	}
+	kept := strings.Count(got, "/primary")
+	if !strings.Contains(got, " and "+strconv.Itoa(len(ids)-kept)+" more") {
+		t.Errorf("kept %d, text ends %q", kept, got[len(got)-40:])
+	}
+	if short := listCell(ids[:3], "x"); short != strings.Join(ids[:3], " ") {
+		t.Errorf("short list %q", short)
+	}
+}
