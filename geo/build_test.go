@@ -714,3 +714,36 @@ func TestVertexOnStraightRunNearJunction(t *testing.T) {
 		})
 	}
 }
+
+// TestLateralTapOnDensifiedRun: a run drawn with a vertex every 10 cm around where a counted
+// lateral taps it, each 0.08 mm to one side or the other of the line (a GIS file's last
+// digit: 1e-9° is 0.08 to 0.11 mm), taps where the straight run does, within a tenth of a
+// millimetre. The tap is the foot of the building's centre on the line simplified within
+// BendToleranceM, brought back to the drawn line; on the drawn 10 cm segment it would swing
+// by up to 15 m × 1.6e-3 rad, about 2.4 cm (13 mm here, before).
+func TestLateralTapOnDensifiedRun(t *testing.T) {
+	t.Parallel()
+	straight := ml(0, 0, 200, 0)
+	dense := ml(0, 0)
+	for i := -10; i <= 10; i++ {
+		dense = append(dense, at(100+0.1*float64(i)+0.013, 0.00008*float64(1-2*(i&1))))
+	}
+	dense = append(dense, at(200, 0))
+	var taps [2]Access
+	var points [2]orb.Point
+	for k, line := range []orb.LineString{straight, dense} {
+		n := build(t, &Campus{Pathways: []Pathway{pw("R", line)}, Buildings: []Building{box("B", 100, 15, 5)}})
+		if len(n.Access) != 1 || n.Access[0].Via != ViaLateral {
+			t.Fatalf("access %+v: want one counted lateral", n.Access)
+		}
+		taps[k] = n.Access[0]
+		j, _ := n.Junction(taps[k].Junction)
+		points[k] = j.Point
+	}
+	if d := DistanceM(points[0], points[1]); d > 1e-4 {
+		t.Errorf("the tap is %.2f mm from the straight run's", d*1000)
+	}
+	if d := math.Abs(taps[0].LateralM - taps[1].LateralM); d > 1e-4 {
+		t.Errorf("the lateral is %.4f m, %.4f m on the straight run", taps[1].LateralM, taps[0].LateralM)
+	}
+}

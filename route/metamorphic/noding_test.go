@@ -91,14 +91,16 @@ func onLine(fs []campusgen.Feature, used map[string]bool, junctions [][2]float64
 //
 // The routes and the total are compared exactly; the proved lower bound within 1e-5 of it.
 // The file gives coordinates to 1e-9° (campusgen's, as GIS exports do), so a vertex "on" the
-// line lies up to 0.08 mm off it. Where two such vertices frame a lateral tap 5 to 60 cm on
-// either side, the short segment between them points off the line by up to 2e-4 rad, and the
-// foot of the building's centre on it (where geo's lateralPlace puts the tap) moves by a
-// millimetre or two. No bill line moves (0.1 m steps), but the dual ascent's bound, summed in
-// float cents over every span's metres, moves by cents: at most 52 cents of 328,211 USD
-// (1.6e-6) on the quick campuses. The spans' lengths differ by micrometres anyway: each
-// segment's ellipsoidal length (DistanceM) is accurate to about a micrometre, and a segment
-// cut in two sums two of them.
+// line lies up to 0.08 mm off it, and each segment's ellipsoidal length (DistanceM) is good
+// to about a micrometre, so a segment cut in two sums to its length within micrometres: the
+// spans' metres, the wall cuts and the lateral taps move by micrometres, and no bill line
+// moves (0.1 m steps, cable in whole metres per leg). The bound is a heuristic dual ascent
+// cut off by a work limit (route/optimize/lowerbound.go): its choices turn on the edges'
+// costs to the cent, so micrometres moved it by up to 145 cents of 292,955 USD (5e-6, soak
+// seed 1014; at most 2 cents on the quick campuses). Before geo placed lateral taps on the
+// lines simplified within BendToleranceM, the foot of a building's centre on the short
+// segment between two such vertices moved the tap by up to 3 mm, which bought a metre more
+// cable on one soak campus (seed 1016, +4.38 USD).
 func TestVertexOnLineNearJunction(t *testing.T) {
 	each(t, func(t *testing.T, seed uint64, c *campusgen.Campus, sc scenario) {
 		_, base := outputs(t, sc)
