@@ -184,8 +184,21 @@ func bendsDeg(xy []vec) (bends []float64, near [2]int) {
 // kept ones while it is more than tolM from it; of vertices as far, the first.
 func keptVertices(xy []vec, tolM float64) []int {
 	keep := make([]bool, len(xy))
+	markKept(xy, tolM, keep, nil)
+	out := make([]int, 0, len(xy))
+	for i, k := range keep {
+		if k {
+			out = append(out, i)
+		}
+	}
+	return out
+}
+
+// markKept sets keep[i] for each vertex i of xy that keptVertices returns (keep is as long as
+// xy and all false), using stack as scratch; it returns the stack for reuse.
+func markKept(xy []vec, tolM float64, keep []bool, stack [][2]int) [][2]int {
 	keep[0], keep[len(xy)-1] = true, true
-	stack := [][2]int{{0, len(xy) - 1}}
+	stack = append(stack[:0], [2]int{0, len(xy) - 1})
 	for len(stack) > 0 {
 		lo, hi := stack[len(stack)-1][0], stack[len(stack)-1][1]
 		stack = stack[:len(stack)-1]
@@ -200,11 +213,5 @@ func keptVertices(xy []vec, tolM float64) []int {
 			stack = append(stack, [2]int{far, hi}, [2]int{lo, far})
 		}
 	}
-	out := make([]int, 0, len(xy))
-	for i, k := range keep {
-		if k {
-			out = append(out, i)
-		}
-	}
-	return out
+	return stack
 }

@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -30,8 +31,12 @@ const minCellM = 25.0
 //
 // Pathways join where they share a vertex (within SnapM), where the end of one lies within
 // SnapM of another (which is split there), and at structures: a structure within SnapM of a
-// pathway becomes a junction there, with the structure's id; a vertex within SnapM is preferred
-// to a point between vertices. A pathway joins itself only where its two ends meet. Pathways
+// pathway becomes a junction there, with the structure's id; a vertex within SnapM that marks
+// a place on its line (an end, a bend, a vertex another line shares) is preferred to a point
+// between vertices. A junction's point is its structure's or entrance's, else where its
+// pathways' ends meet, else a vertex two lines share, else a bend: a vertex on a straight run
+// (within BendToleranceM of it) means nothing, and drawing one beside a junction moves no
+// junction. A pathway joins itself only where its two ends meet. Pathways
 // that cross with no shared vertex and no structure stay apart, and each such crossing is
 // reported as a Warning. A piece of pathway shorter than 3×SnapM that leaves and returns to the
 // same junction is dropped as noise.
@@ -43,8 +48,9 @@ const minCellM = 25.0
 //  2. Via "footprint": a pathway end inside the footprint or within SnapM of its boundary; of
 //     several, the junction with the most spans, then the lowest ID.
 //  3. Via "lateral": the nearest point of any pathway within MaxLateralM of the footprint,
-//     which becomes a junction (a vertex within SnapM of it is used instead, so short spans are
-//     not cut off); the lateral runs from the nearest point of the footprint boundary.
+//     which becomes a junction (a vertex within SnapM of it that marks a place on the line is
+//     used instead, so short spans are not cut off); the lateral runs from the nearest point of
+//     the footprint boundary.
 //
 // A building with none of these is an ErrUnreachable *input.Problem.
 //
@@ -154,6 +160,8 @@ type part struct {
 	ll    orb.LineString
 	xy    []vec
 	cum   []float64 // projected length from vertex 0 to each vertex, in metres
+	bend  []bool    // per vertex: the line simplified within BendToleranceM keeps it (ends included)
+	kept  []int32   // the vertices bend marks, in order
 	v0    int       // member index of vertex 0; vertex i is member v0+i
 	s0    int       // global index of segment 0
 }
@@ -225,6 +233,7 @@ type builder struct {
 	parent  []int
 	labeled []bool
 	splits  [][]int // per part
+	shared  []bool  // per vertex member: another line has a vertex at exactly its position
 	entIDs  []string
 	entMem  []int
 	entOn   []bool
@@ -239,6 +248,7 @@ type builder struct {
 	parted  map[int][][]int   // building index → the members splitInside parted, per meeting point
 	ids     map[int]string    // root → junction ID
 	buf     []int32
+	chords  [][3]int // scratch: lateralPlace's chords
 }
 
 func (b *builder) add(src Source, id, prop string, err error) {
@@ -355,6 +365,7 @@ func (b *builder) setup() {
 	cell := math.Max(minCellM, math.Max(hi.x-lo.x, hi.y-lo.y)/1024)
 	b.segGrid, b.vtxGrid = newGrid(cell), newGrid(cell)
 
+	var stack [][2]int // markKept's scratch
 	for pi, pw := range c.Pathways {
 		for k, src := range pw.Lines {
 			ls := make(orb.LineString, 0, len(src))
@@ -377,9 +388,17 @@ func (b *builder) setup() {
 					b.segs = append(b.segs, segRef{part: len(b.parts), i: i - 1})
 				}
 			}
+			pt.bend = make([]bool, len(ls))
+			stack = markKept(pt.xy, BendToleranceM, pt.bend, stack)
+			for i, k := range pt.bend {
+				if k {
+					pt.kept = append(pt.kept, int32(i))
+				}
+			}
 			b.parts = append(b.parts, pt)
 		}
 	}
+	b.shared = make([]bool, len(b.mem))
 	b.splits = make([][]int, len(b.parts))
 	b.feet = make([]footprint, len(c.Buildings))
 	for i, bl := range c.Buildings {
@@ -436,6 +455,9 @@ func (b *builder) joinVertices() {
 				if xy.dist2(b.mem[o].xy) <= s2 {
 					b.union(m, o)
 				}
+				if b.mem[o].ll == b.mem[m].ll {
+					b.shared[m], b.shared[o] = true, true
+				}
 			}
 		}
 		if n := len(p.xy); p.xy[0].dist2(p.xy[n-1]) <= s2 {
@@ -444,8 +466,19 @@ func (b *builder) joinVertices() {
 	}
 }
 
-// locate finds the place on part q nearest xy within tol among the listed segments: a vertex
-// if one is within tol, else a new split point. It returns the member, or -1.
+// marks reports whether vertex v of part p marks a place on its line: an end of the line, a
+// vertex where the line bends (kept by its simplification within BendToleranceM), or one that
+// another line shares exactly (a crossing drawn through a common vertex). A vertex that only
+// lies on a straight run, within BendToleranceM of it, marks nothing: the line drawn without
+// it is the same line, so noding must not take it for where something joins (locate, target)
+// nor for a junction's point (cut).
+func (b *builder) marks(p *part, v int) bool {
+	return p.bend[v] || b.shared[p.v0+v]
+}
+
+// locate finds the place on part q nearest xy within tol among the listed segments: the
+// nearest vertex within tol that marks a place on the line (marks), else a new split point.
+// It returns the member, or -1.
 func (b *builder) locate(q int, segIDs []int32, xy vec, tol float64) int {
 	p := &b.parts[q]
 	t2 := tol * tol
@@ -454,7 +487,7 @@ func (b *builder) locate(q int, segIDs []int32, xy vec, tol float64) int {
 	for _, s := range segIDs {
 		i := b.segs[s].i
 		for _, v := range [2]int{i, i + 1} {
-			if d := xy.dist2(p.xy[v]); d <= t2 && d < bestVD {
+			if d := xy.dist2(p.xy[v]); d <= t2 && d < bestVD && b.marks(p, v) {
 				bestV, bestVD = v, d
 			}
 		}
@@ -462,11 +495,15 @@ func (b *builder) locate(q int, segIDs []int32, xy vec, tol float64) int {
 			bestS, bestST, bestSD = i, t, d
 		}
 	}
-	if bestV >= 0 {
+	switch {
+	case bestV >= 0:
 		return p.v0 + bestV
-	}
-	if bestS < 0 {
+	case bestS < 0:
 		return -1
+	case bestST == 0: // the nearest place is a vertex that marks nothing: it, not a split on it
+		return p.v0 + bestS
+	case bestST == 1:
+		return p.v0 + bestS + 1
 	}
 	return b.split(q, bestS, bestST)
 }
@@ -569,7 +606,10 @@ type place struct {
 }
 
 // better orders candidate places by distance to the millimetre, then by pathway ID, line,
-// segment and position, so that ties do not depend on input order.
+// exact distance, segment and position, so that ties do not depend on input order, and along
+// one line the nearer place wins whatever the segment: a vertex drawn on a straight run
+// numbers the segments after it anew, and its place within a millimetre of the nearest must
+// not win on its segment's number.
 func (b *builder) better(x, y place) bool {
 	if y.seg < 0 {
 		return true
@@ -584,25 +624,44 @@ func (b *builder) better(x, y place) bool {
 	if px.k != py.k {
 		return px.k < py.k
 	}
+	if x.d != y.d {
+		return x.d < y.d
+	}
 	if x.seg != y.seg {
 		return x.seg < y.seg
 	}
 	return x.t < y.t
 }
 
-// target turns a place on a pathway into a member that must become a junction, preferring a
-// vertex within SnapM.
+// target turns a place on a pathway into a member that must become a junction, preferring
+// the nearest vertex along the line within SnapM that marks a place on it (marks; the one
+// before on a tie), so that no span shorter than SnapM is cut off between them; a vertex on a
+// straight run there is passed over, as the line drawn without it would be.
 func (b *builder) target(seg int, t float64) int {
 	sr := b.segs[seg]
 	p := &b.parts[sr.part]
-	at := lerp(p.xy[sr.i], p.xy[sr.i+1], t)
-	d0, d1 := at.dist(p.xy[sr.i]), at.dist(p.xy[sr.i+1])
+	at := p.along(sr.i, t)
+	v, best := -1, math.Inf(1)
+	for k := sr.i; k >= 0 && at-p.cum[k] <= b.snap; k-- {
+		if b.marks(p, k) {
+			v, best = k, at-p.cum[k]
+			break
+		}
+	}
+	for k := sr.i + 1; k < len(p.cum) && p.cum[k]-at <= b.snap; k++ {
+		if b.marks(p, k) {
+			if p.cum[k]-at < best {
+				v = k
+			}
+			break
+		}
+	}
 	var m int
 	switch {
-	case d0 <= b.snap && d0 <= d1:
-		m = p.v0 + sr.i
-	case d1 <= b.snap:
-		m = p.v0 + sr.i + 1
+	case v >= 0:
+		m = p.v0 + v
+	case t == 0 || t == 1: // a vertex that marks nothing: it, not a split on it
+		m = p.v0 + sr.i + int(t)
 	default:
 		m = -1
 		for _, o := range b.splits[sr.part] {
@@ -686,37 +745,76 @@ func (b *builder) footprintEnds(f *footprint) []int {
 // centre. A footprint edge parallel to a pathway is equally near all along it, and the
 // nearest place alone would jump from one end of the edge to the other when a vertex moves by
 // a millimetre. When no place about as near lies opposite the centre, the nearest place.
+//
+// Both are found on each line simplified within BendToleranceM, as turns and bends are
+// measured, and brought back to the drawn line (chordPlace): a vertex on a straight run, or a
+// run drawn with many, offers no place the run did not, and a short segment between two
+// vertices that a file's last digit puts a hair off the line does not swing the place along
+// it (a corner of the footprint 20 m away, projected on a segment of 10 cm whose ends are each
+// 0.08 mm off, moves by 3 cm).
 func (b *builder) lateralPlace(f *footprint) place {
-	nearest := place{seg: -1}
+	chords := b.chords[:0] // part, first and last kept vertex; a few per building
 	for _, s := range b.buf {
 		sr := b.segs[s]
 		p := &b.parts[sr.part]
-		d, t := f.segDist(p.xy[sr.i], p.xy[sr.i+1])
-		if c := (place{seg: int(s), t: t, d: d}); b.better(c, nearest) {
+		k, _ := slices.BinarySearch(p.kept, int32(sr.i)+1)
+		if ch := [3]int{sr.part, int(p.kept[k-1]), int(p.kept[min(k, len(p.kept)-1)])}; !slices.Contains(chords, ch) {
+			chords = append(chords, ch)
+		}
+	}
+	b.chords = chords
+	nearest, nearestM := place{seg: -1}, math.Inf(1)
+	for _, ch := range chords {
+		p := &b.parts[ch[0]]
+		_, t := f.segDist(p.xy[ch[1]], p.xy[ch[2]])
+		c := b.chordPlace(p, ch[1], ch[2], t)
+		c.d = f.distTo(lerp(p.xy[c.seg-p.s0], p.xy[c.seg-p.s0+1], c.t))
+		if b.better(c, nearest) {
 			nearest = c
 		}
+		nearestM = min(nearestM, c.d) // better ties places to the millimetre: not the limit
 	}
 	if nearest.seg < 0 {
 		return nearest
 	}
 	centre := lerp(f.lo, f.hi, 0.5)
-	best, bestC := place{seg: -1}, math.Inf(1)
-	for _, s := range b.buf {
-		sr := b.segs[s]
-		p := &b.parts[sr.part]
-		t, c2 := closestOnSeg(centre, p.xy[sr.i], p.xy[sr.i+1])
-		c := place{seg: int(s), t: t, d: f.distTo(lerp(p.xy[sr.i], p.xy[sr.i+1], t))}
-		if c.d > nearest.d+lateralTieM {
+	// Of the places offered, the nearest the centre: by better, with the distance to the
+	// centre for the distance to the footprint.
+	best, bestX := place{seg: -1}, 0.0
+	for _, ch := range chords {
+		p := &b.parts[ch[0]]
+		t, _ := closestOnSeg(centre, p.xy[ch[1]], p.xy[ch[2]])
+		c := b.chordPlace(p, ch[1], ch[2], t)
+		at := lerp(p.xy[c.seg-p.s0], p.xy[c.seg-p.s0+1], c.t)
+		if c.d = f.distTo(at); c.d > nearestM+lateralTieM {
 			continue // not about as near where it passes the centre (or not near at all)
 		}
-		if cd := math.Round(math.Sqrt(c2) * 1000); best.seg < 0 || cd < bestC || (cd == bestC && b.better(c, best)) {
-			best, bestC = c, cd
+		x := at.dist(centre)
+		if best.seg < 0 || b.better(place{seg: c.seg, t: c.t, d: x}, place{seg: best.seg, t: best.t, d: bestX}) {
+			best, bestX = c, x
 		}
 	}
 	if best.seg < 0 {
 		return nearest
 	}
 	return best
+}
+
+// chordPlace brings the point at t along the chord of part p from kept vertex k0 to k1 (its
+// line simplified within BendToleranceM) back to the drawn line: the place on its segments
+// k0 to k1 nearest that point (d unset).
+func (b *builder) chordPlace(p *part, k0, k1 int, t float64) place {
+	at := lerp(p.xy[k0], p.xy[k1], t)
+	if k1 == k0+1 {
+		return place{seg: p.s0 + k0, t: t}
+	}
+	j, tj, dj := k0, 0.0, math.Inf(1)
+	for i := k0; i < k1; i++ {
+		if ti, d2 := closestOnSeg(at, p.xy[i], p.xy[i+1]); d2 < dj {
+			j, tj, dj = i, ti, d2
+		}
+	}
+	return place{seg: p.s0 + j, t: tj}
 }
 
 // entranceOffM is how far a declared entrance may lie from its building's footprint before
@@ -810,11 +908,15 @@ func (b *builder) cut() {
 		return m.kind == memVertex && (m.seg == 0 || m.seg == len(b.parts[m.part].xy)-1)
 	}
 
-	// A junction's point is its structure's or entrance's, else that of its westernmost (then
-	// southernmost) input vertex, else its split point.
+	// A junction's point is where the drawing has its pathways meet: its structure's or
+	// entrance's point; else its westernmost (then southernmost) pathway end (the end of an
+	// input line); else such a vertex shared exactly by two lines (a crossing drawn through a
+	// common vertex); else such a vertex where a line bends; else such a vertex of any kind;
+	// else such a split point. A vertex on a straight run that comes within SnapM of the
+	// others joins the group but is where nothing meets: drawn or not, the junction stays put.
 	b.rep = make(map[int]orb.Point)
 	named := make(map[int]bool)
-	repVertex := make(map[int]bool)
+	rank := make(map[int]int)
 	for i, m := range b.mem {
 		if m.part < 0 {
 			r := b.find(i)
@@ -826,10 +928,10 @@ func (b *builder) cut() {
 		if m.part < 0 || named[r] {
 			continue
 		}
+		k := b.repRank(i)
 		cur, has := b.rep[r]
-		isV := m.kind == memVertex
-		if !has || (isV && !repVertex[r]) || (isV == repVertex[r] && lessLL(m.ll, cur)) {
-			b.rep[r], repVertex[r] = m.ll, isV
+		if !has || k < rank[r] || (k == rank[r] && lessLL(m.ll, cur)) {
+			b.rep[r], rank[r] = m.ll, k
 		}
 	}
 
@@ -872,18 +974,44 @@ func (b *builder) cut() {
 			if r1 == r2 && e2.along-e1.along < three {
 				continue
 			}
+			// Within SnapM of either end (along the line) the junction's point stands for the
+			// drawing, as it does for the group's own members: a vertex there on a straight run
+			// (one that marks nothing) is left out, so that the piece runs from the junction's
+			// point to the line as it would without it.
 			pts := orb.LineString{b.rep[r1]}
 			j1 := e2.seg
 			if e2.t == 0 {
 				j1--
 			}
 			for j := e1.seg + 1; j <= j1; j++ {
+				if !b.marks(p, j) && (p.cum[j]-e1.along <= b.snap || e2.along-p.cum[j] <= b.snap) {
+					continue
+				}
 				pts = append(pts, p.ll[j])
 			}
 			pts = append(pts, b.rep[r2])
 			b.pieces = append(b.pieces, piece{part: pi, from: r1, to: r2, pts: b.clean(pts)})
 		}
 	}
+}
+
+// repRank orders a pathway member's claim to be its junction's point (cut), lowest first:
+// a line's end, a vertex shared exactly with another line, a bend, another vertex, a split
+// point.
+func (b *builder) repRank(i int) int {
+	m := b.mem[i]
+	p := &b.parts[m.part]
+	switch {
+	case m.kind != memVertex:
+		return 4
+	case m.seg == 0 || m.seg == len(p.xy)-1:
+		return 0
+	case b.shared[i]:
+		return 1
+	case p.bend[m.seg]:
+		return 2
+	}
+	return 3
 }
 
 // clean drops vertices within a millimetre of the one before (keeping both ends), so that

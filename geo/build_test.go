@@ -624,3 +624,126 @@ func TestLateralToSlantedPathway(t *testing.T) {
 		t.Errorf("access %+v: want a lateral of about 2 m", n.Access)
 	}
 }
+
+// TestVertexOnStraightRunNearJunction: a vertex drawn on a straight run 5 to 60 cm from a
+// junction (the same line, no metres added) moves no junction and changes no span's length:
+// a junction's point is where the pathways meet (a structure or entrance, else a pathway end,
+// else a vertex two lines share, else a bend), never a vertex that only lies on a straight run
+// within snap_m of the others; such a vertex is no place for a stem's end or a lateral to join
+// either. Before, the junction went to the westernmost vertex of its group: the new vertex,
+// up to 0.6 m away.
+//
+// Where the junction's point lies off the run (a structure, or a stem's end, 0.2 or 0.3 m
+// beside it: within snap_m), a vertex beyond snap_m of it stays in the span's line, which then
+// runs from it to the junction's point: o²/2L longer for a point o off the run and a vertex L
+// before it (7 cm for 0.3 m at 0.6 m), as the drawing says; those cases stop at snap_m.
+func TestVertexOnStraightRunNearJunction(t *testing.T) {
+	t.Parallel()
+	cases := []struct {
+		name    string
+		offLine bool                    // the junction's point lies off the run, within snap_m
+		c       func(dM float64) Campus // dM < 0: as drawn, without the vertex
+	}{
+		{"ends that do not quite meet", false, func(dM float64) Campus {
+			a := ml(0, 0, 100, 0)
+			if dM >= 0 {
+				a = ml(0, 0, 100-dM, 0, 100, 0)
+			}
+			return Campus{Pathways: []Pathway{pw("A", a), pw("B", ml(100, 0, 100, 100)), pw("C", ml(100.2, 0.1, 200, 0))}}
+		}},
+		{"a stem's end snapped onto a run", true, func(dM float64) Campus {
+			r := ml(0, 0, 200, 0)
+			if dM >= 0 {
+				r = ml(0, 0, 100-dM, 0, 200, 0)
+			}
+			return Campus{Pathways: []Pathway{pw("R", r), pw("S", ml(100, 0.3, 100, 100))}}
+		}},
+		{"a crossing drawn through a shared vertex", false, func(dM float64) Campus {
+			a := ml(0, 0, 100, 0, 200, 0)
+			if dM >= 0 {
+				a = ml(0, 0, 100-dM, 0, 100, 0, 200, 0)
+			}
+			return Campus{Pathways: []Pathway{pw("A", a), pw("B", ml(100, -100, 100, 0, 100, 100))}}
+		}},
+		{"a structure beside a run", true, func(dM float64) Campus {
+			r := ml(0, 0, 200, 0)
+			if dM >= 0 {
+				r = ml(0, 0, 100-dM, 0, 200, 0)
+			}
+			return Campus{Pathways: []Pathway{pw("R", r)},
+				Structures: []Structure{{Source: Source{File: "t.geojson", Index: 1}, ID: "HH-1", Point: at(100, 0.2)}}}
+		}},
+		{"a counted lateral's tap", false, func(dM float64) Campus {
+			// The building's centre is opposite x = 100.
+			r := ml(0, 0, 200, 0)
+			if dM >= 0 {
+				r = ml(0, 0, 100-dM, 0, 200, 0)
+			}
+			return Campus{Pathways: []Pathway{pw("R", r)}, Buildings: []Building{box("B", 100, 15, 5)}}
+		}},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			c0 := tc.c(-1)
+			base := build(t, &c0)
+			for _, dM := range []float64{0.05, 0.3, 0.45, 0.6} {
+				if tc.offLine && dM > DefaultSnapM {
+					continue
+				}
+				c := tc.c(dM)
+				n := build(t, &c)
+				if len(n.Junctions) != len(base.Junctions) || len(n.Spans) != len(base.Spans) {
+					t.Errorf("vertex %.2f m off: %d junctions, %d spans (%s); want %d, %d (%s)", dM,
+						len(n.Junctions), len(n.Spans), spanIDs(n), len(base.Junctions), len(base.Spans), spanIDs(base))
+					continue
+				}
+				for i, j := range n.Junctions {
+					if b := base.Junctions[i]; j.ID != b.ID || DistanceM(j.Point, b.Point) > 1e-6 {
+						t.Errorf("vertex %.2f m off: junction %s at %v, %.3f m from %s as drawn without it", dM, j.ID, j.Point, DistanceM(j.Point, b.Point), b.ID)
+					}
+				}
+				for i, s := range n.Spans {
+					if b := base.Spans[i]; s.ID != b.ID || math.Abs(s.LengthM-b.LengthM) > 1e-5 {
+						t.Errorf("vertex %.2f m off: span %s %.4f m, want %s %.4f m", dM, s.ID, s.LengthM, b.ID, b.LengthM)
+					}
+				}
+				if len(n.Access) != len(base.Access) || (len(n.Access) > 0 && math.Abs(n.Access[0].LateralM-base.Access[0].LateralM) > 1e-6) {
+					t.Errorf("vertex %.2f m off: access %+v, want %+v", dM, n.Access, base.Access)
+				}
+			}
+		})
+	}
+}
+
+// TestLateralTapOnDensifiedRun: a run drawn with a vertex every 10 cm around where a counted
+// lateral taps it, each 0.08 mm to one side or the other of the line (a GIS file's last
+// digit: 1e-9° is 0.08 to 0.11 mm), taps where the straight run does, within a tenth of a
+// millimetre. The tap is the foot of the building's centre on the line simplified within
+// BendToleranceM, brought back to the drawn line; on the drawn 10 cm segment it would swing
+// by up to 15 m × 1.6e-3 rad, about 2.4 cm (13 mm here, before).
+func TestLateralTapOnDensifiedRun(t *testing.T) {
+	t.Parallel()
+	straight := ml(0, 0, 200, 0)
+	dense := ml(0, 0)
+	for i := -10; i <= 10; i++ {
+		dense = append(dense, at(100+0.1*float64(i)+0.013, 0.00008*float64(1-2*(i&1))))
+	}
+	dense = append(dense, at(200, 0))
+	var taps [2]Access
+	var points [2]orb.Point
+	for k, line := range []orb.LineString{straight, dense} {
+		n := build(t, &Campus{Pathways: []Pathway{pw("R", line)}, Buildings: []Building{box("B", 100, 15, 5)}})
+		if len(n.Access) != 1 || n.Access[0].Via != ViaLateral {
+			t.Fatalf("access %+v: want one counted lateral", n.Access)
+		}
+		taps[k] = n.Access[0]
+		j, _ := n.Junction(taps[k].Junction)
+		points[k] = j.Point
+	}
+	if d := DistanceM(points[0], points[1]); d > 1e-4 {
+		t.Errorf("the tap is %.2f mm from the straight run's", d*1000)
+	}
+	if d := math.Abs(taps[0].LateralM - taps[1].LateralM); d > 1e-4 {
+		t.Errorf("the lateral is %.4f m, %.4f m on the straight run", taps[1].LateralM, taps[0].LateralM)
+	}
+}
