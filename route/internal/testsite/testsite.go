@@ -232,32 +232,38 @@ func PullCampus(ductMM float64, spare int) string {
 	return `{"type":"FeatureCollection","features":[` + strings.Join(f, ",") + `]}`
 }
 
+// fanLine is a LineString's coordinates through the points (x, y pairs, metres on the local
+// grid), as GeoJSON text.
+func fanLine(pts ...float64) string {
+	var s []string
+	for i := 0; i+1 < len(pts); i += 2 {
+		s = append(s, fmt.Sprintf("[%.7f,%.7f]", X(pts[i]), Y(pts[i+1])))
+	}
+	return "[" + strings.Join(s, ",") + "]"
+}
+
+// fanWay is a pathway feature with id, type, extra properties (each with its leading comma)
+// and coordinates, as GeoJSON text.
+func fanWay(id, typ, props, coords string) string {
+	return fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":%q,"type":%q%s},"geometry":{"type":"LineString","coordinates":%s}}`,
+		id, typ, props, coords)
+}
+
 // FanCampus is hub A and buildings B, C and E, all reached over one duct T (spare ducts of
 // ductMM, or, proposed, new construction whose ducts are of ductMM) that ends at a junction,
 // where direct-buried pathways (no duct limit) fan out to the three buildings: every link's
 // cable crosses T, and there is no other way.
 func FanCampus(ductMM float64, spare int, proposed bool) string {
-	line := func(pts ...float64) string {
-		var s []string
-		for i := 0; i+1 < len(pts); i += 2 {
-			s = append(s, fmt.Sprintf("[%.7f,%.7f]", X(pts[i]), Y(pts[i+1])))
-		}
-		return "[" + strings.Join(s, ",") + "]"
-	}
-	way := func(id, typ, props, coords string) string {
-		return fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":%q,"type":%q%s},"geometry":{"type":"LineString","coordinates":%s}}`,
-			id, typ, props, coords)
-	}
 	t := fmt.Sprintf(`,"spare_ducts":%d,"duct_mm":%g`, spare, ductMM)
 	if proposed {
 		t = fmt.Sprintf(`,"status":"proposed","surface":"turf","duct_mm":%g`, ductMM)
 	}
 	f := []string{
 		Box("A", "mc", 10, 25), Box("B", "", 300, 25), Box("C", "", 200, 125), Box("E", "", 200, -125),
-		way("T", "duct", t, line(10, 15, 10, 0, 200, 0)),
-		way("FB", "buried", "", line(200, 0, 300, 0, 300, 15)),
-		way("FC", "buried", "", line(200, 0, 200, 115)),
-		way("FE", "buried", "", line(200, 0, 200, -115)),
+		fanWay("T", "duct", t, fanLine(10, 15, 10, 0, 200, 0)),
+		fanWay("FB", "buried", "", fanLine(200, 0, 300, 0, 300, 15)),
+		fanWay("FC", "buried", "", fanLine(200, 0, 200, 115)),
+		fanWay("FE", "buried", "", fanLine(200, 0, 200, -115)),
 	}
 	return `{"type":"FeatureCollection","features":[` + strings.Join(f, ",") + `]}`
 }
@@ -266,17 +272,6 @@ func FanCampus(ductMM float64, spare int, proposed bool) string {
 // (one spare duct of 21 mm) that ends at a junction where roomy duct banks fan out (not
 // direct-buried: outdoor copper is not rated for burial, rule direct-burial).
 func CopperFan() string {
-	line := func(pts ...float64) string {
-		var s []string
-		for i := 0; i+1 < len(pts); i += 2 {
-			s = append(s, fmt.Sprintf("[%.7f,%.7f]", X(pts[i]), Y(pts[i+1])))
-		}
-		return "[" + strings.Join(s, ",") + "]"
-	}
-	way := func(id, typ, props, coords string) string {
-		return fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":%q,"type":%q%s},"geometry":{"type":"LineString","coordinates":%s}}`,
-			id, typ, props, coords)
-	}
 	// Risers of 3 m: outdoor copper cable, unlisted, may run at most 15 m inside a building
 	// from its point of entrance (NFPA 70 800.48, from memory), riser, service coil and
 	// entrance loop together.
@@ -285,9 +280,9 @@ func CopperFan() string {
 	}
 	f := []string{
 		box("A", "mc", 10, 25), box("B", "", 32, 25), box("C", "", 20, -20),
-		way("T", "duct", `,"spare_ducts":1,"duct_mm":21`, line(10, 15, 10, 5, 20, 5)),
-		way("FB", "duct", `,"spare_ducts":4,"duct_mm":100`, line(20, 5, 32, 5, 32, 15)),
-		way("FC", "duct", `,"spare_ducts":4,"duct_mm":100`, line(20, 5, 20, -10)),
+		fanWay("T", "duct", `,"spare_ducts":1,"duct_mm":21`, fanLine(10, 15, 10, 5, 20, 5)),
+		fanWay("FB", "duct", `,"spare_ducts":4,"duct_mm":100`, fanLine(20, 5, 32, 5, 32, 15)),
+		fanWay("FC", "duct", `,"spare_ducts":4,"duct_mm":100`, fanLine(20, 5, 20, -10)),
 	}
 	return `{"type":"FeatureCollection","features":[` + strings.Join(f, ",") + `]}`
 }
