@@ -44,6 +44,7 @@ func Fingerprint(p *Problem, opt Settings) (sum [sha256.Size]byte, ok bool) {
 		f.float(e.LengthM)
 		f.int(e.LabourPerMCents)
 		f.float(e.CableM)
+		f.float(e.ReachM)
 		f.int(e.PerCableCents)
 		f.bool(e.Proposed)
 		f.int(e.FixedCents)

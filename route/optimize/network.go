@@ -67,6 +67,9 @@ func NewNetwork(nodes int, edges []Edge) *Network {
 			panic("optimize: edge endpoint out of range")
 		}
 		n.lenMM[i] = lengthMM(e.LengthM)
+		if e.ReachM > 0 {
+			n.lenMM[i] = lengthMM(e.ReachM) // what the edge adds to a channel (Edge.ReachM)
+		}
 		deg[e.From]++
 		if e.To != e.From {
 			deg[e.To]++

@@ -31,8 +31,14 @@ type Edge struct {
 
 	// CableM is the cable one cable takes along this edge, in metres: LengthM with what the
 	// caller adds to it (slack loops stored at its ends, waste); 0 means LengthM. An option
-	// pays round(CableM × CablePerMCents) on the edge; reach still counts LengthM.
+	// pays round(CableM × CablePerMCents) on the edge.
 	CableM float64
+
+	// ReachM is what the edge adds to a channel, in metres: LengthM with the slack loops
+	// stored along it (no waste: the loss budget counts what is installed); 0 means LengthM.
+	// Reach (Option.MaxRouteM), the length objective and the tie between equal costs count
+	// it; a leg's LengthM in the Solution stays the route's own metres.
+	ReachM float64
 
 	// PerCableCents is what each cable routed over the edge pays besides its cable and
 	// LabourPerMCents, in cents: costs the caller prices per item (labour at a productivity
@@ -316,6 +322,9 @@ func validate(p *Problem, s Settings) error {
 		}
 		if !finiteNonNeg(e.CableM) || e.CableM > maxLengthM {
 			bad("%s: cable metres: want finite number in [0, %v], got %v", name, float64(maxLengthM), e.CableM)
+		}
+		if !finiteNonNeg(e.ReachM) || e.ReachM > maxLengthM {
+			bad("%s: reach metres: want finite number in [0, %v], got %v", name, float64(maxLengthM), e.ReachM)
 		}
 		if e.PerCableCents < 0 || e.PerCableCents > maxFixedCents {
 			bad("%s: per-cable cost: want cents in [0, %d], got %d", name, int64(maxFixedCents), e.PerCableCents)

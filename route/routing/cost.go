@@ -268,7 +268,8 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 		// loop, a crew entry, the bid items per structure.
 		hh := float64(len(runHH[sp.ID])) + items.JoinEnds(s, sp) - 0.5*float64(lay.joinEnds[i])
 		loops := (items.LoopM(s, d, sp.From)+items.LoopM(s, d, sp.To))/2 + hh*d.SlackLoopStructureM
-		e := optimize.Edge{ID: sp.ID, From: int(u), To: int(v), LengthM: sp.LengthM, CableM: items.Wasted(d, sp.LengthM+loops),
+		// The loops count in the channel too (the loss budget's), so in the reach (ReachM).
+		e := optimize.Edge{ID: sp.ID, From: int(u), To: int(v), LengthM: sp.LengthM, CableM: items.Wasted(d, sp.LengthM+loops), ReachM: sp.LengthM + loops,
 			PerCableCents: m.cents(items.AlongSpan(d, sp.Type, sp.LengthM)...) + m.cents(items.StructureLoops(loops)...) +
 				m.cents(items.AtJunctions(m.prices, pull+hh, entered+hh)...) + m.bidPer(media.BidBases{Structures: 1}, entered+hh),
 			Group: lay.groupOf[sp.Group], Flags: lay.classBit[classOf(sp)]}
@@ -311,11 +312,12 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 			e.ID, e.Group = "entrance "+x.entry.ID+" of "+x.building, x.group
 			if lat := x.entry.LateralM; lat > 0 {
 				// The entrance's lateral: cable and its pull in the duct the plan builds, outdoors.
-				e.LengthM, e.CableM = lat, items.Wasted(d, lat)
+				e.LengthM, e.CableM, e.ReachM = lat, items.Wasted(d, lat), lat
 				e.PerCableCents = m.cents(items.LegEnds(0, 0, lat)...)
 				e.Flags = lay.classBit[lateralClass]
 				if s.TapOf(x.entry) { // the tap's handhole, a structure passed (passesOf)
 					e.CableM += items.Wasted(d, d.SlackLoopStructureM)
+					e.ReachM += d.SlackLoopStructureM
 					e.PerCableCents += m.cents(items.TapCrew(m.prices)...) + m.cents(items.StructureLoops(d.SlackLoopStructureM)...) +
 						m.bidPer(media.BidBases{Structures: 1}, 1)
 				}
@@ -324,6 +326,7 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 				// The other half of the slack loop at an entrance that is a structure: the
 				// route's first span carries one half (as every span does at its ends).
 				e.CableM += items.Wasted(d, loop)
+				e.ReachM = max(e.ReachM, e.LengthM) + loop
 				e.PerCableCents += m.cents(items.StructureLoops(loop)...)
 			}
 			pull, entered := crewHalves(s, x.junction)
@@ -339,6 +342,9 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 			// (README, "One cost model"; modelGap in route/costmodel_test.go).
 			share := float64(lay.turnShare(x.from, x.to)) / 2
 			e.ID, e.PerCableCents = "turn at "+x.junction, m.cents(items.AtJunctions(m.prices, share, share)...)
+			// Its loop is in the channel all the same (its share of it: reach is not priced, so
+			// halves that round apart choose nothing).
+			e.ReachM = share * d.SlackLoopStructureM
 		}
 		p.Edges = append(p.Edges, e)
 	}
