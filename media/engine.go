@@ -762,21 +762,36 @@ func (e *Engine) rejections(l Link, m *Medium, mi int, all, ok []*candidate, win
 		}
 		return []Rejection{{Medium: m.ID, Rule: rule, Reason: fmt.Sprintf("%s rejected by %s: %s", m.ID, rule, how)}}
 	}
+	// Per application, the candidates that fail the fewest rules, each distinct rule they fail
+	// once, in rule order: a candidate that fails only one rule is one change away from
+	// feasible, and which change is the user's to choose (route around a buried span, splice
+	// at the entrances, a shorter route...), so every such rule is named, not one of them.
 	var out []Rejection
 	for ai := range e.cat.Applications {
-		var pick *candidate
+		least := -1
 		for _, c := range all {
-			if c.mi == mi && c.ai == ai && (pick == nil || c.nFailed < pick.nFailed ||
-				(c.nFailed == pick.nFailed && c.failed > pick.failed)) {
-				pick = c
+			if c.mi == mi && c.ai == ai && (least < 0 || c.nFailed < least) {
+				least = c.nFailed
 			}
 		}
-		if pick == nil {
+		if least < 0 {
 			continue
 		}
-		rule := e.rules.Rules[pick.failed]
-		out = append(out, Rejection{Medium: m.ID, Rule: rule.ID,
-			Reason: fmt.Sprintf("%s rejected by %s: %s", m.ID, rule.ID, rule.reason.render(pick.f[:]))})
+		var picks []*candidate
+		for _, c := range all {
+			if c.mi == mi && c.ai == ai && c.nFailed == least && !slices.ContainsFunc(picks, func(p *candidate) bool { return p.failed == c.failed }) {
+				picks = append(picks, c)
+			}
+		}
+		slices.SortStableFunc(picks, func(a, b *candidate) int { return a.failed - b.failed })
+		for _, pick := range picks {
+			rule := e.rules.Rules[pick.failed]
+			r := Rejection{Medium: m.ID, Rule: rule.ID,
+				Reason: fmt.Sprintf("%s rejected by %s: %s", m.ID, rule.ID, rule.reason.render(pick.f[:]))}
+			if !slices.Contains(out, r) { // two applications failing alike say it once
+				out = append(out, r)
+			}
+		}
 	}
 	if len(out) == 0 {
 		out = append(out, Rejection{Medium: m.ID, Rule: RuleNoApplication,

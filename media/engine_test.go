@@ -800,3 +800,25 @@ func TestReachWithRisersAndSlack(t *testing.T) {
 		}
 	}
 }
+
+// TestNoMediumNamesEveryNearMiss: a link that only fails because each construction breaks a
+// different rule names each of those rules, once. Over a direct-buried span and a tray, with
+// 20 m inside each building, indoor/outdoor cable is not rated for burial (rule direct-burial:
+// ICEA S-87-640 / Telcordia GR-20, from memory) and outside-plant cable may run at most 15 m
+// inside (NFPA 70 770.48, seen as fragment) and takes no transition on a route with trays
+// (README, "What spanwright does not model yet"); the reason used to name only the second,
+// which sent the user to the risers rather than to the buried span.
+func TestNoMediumNamesEveryNearMiss(t *testing.T) {
+	t.Parallel()
+	e := newEngine(t, nil, nil, EngineOptions{})
+	ch := e.Choose(Link{ID: "L", RouteM: 600, RiserM: 40, RateGbps: 10, Outdoor: true, ConnectorPairs: 2, Strands: 12,
+		PathwayTypes: []string{"buried", "duct", "tray"}})
+	if ch.Feasible {
+		t.Fatalf("feasible: %s %s; the test wants the two rules to meet", ch.Medium, ch.Construction)
+	}
+	for _, want := range []string{"os2 rejected by direct-burial", "os2 rejected by entrance-15m"} {
+		if n := strings.Count(ch.Reason, want); n != 1 {
+			t.Errorf("%q named %d times in %s", want, n, ch.Reason)
+		}
+	}
+}
