@@ -273,8 +273,7 @@ func (c *candidate) label() string {
 // buildings over no tray and no plenum, risers to run inside, and the book pricing the
 // entrance splice enclosure (transition_splice_each).
 func (e *Engine) transitionInside(l Link, m *Medium, k *Construction, strands int) *Construction {
-	if !m.Fibre() || !l.Outdoor || l.Plenum || l.RiserM <= 0 || !k.OutdoorRated || k.Listing != "" ||
-		slices.Contains(l.PathwayTypes, "tray") {
+	if !transitionFits(l, m, k) {
 		return nil
 	}
 	if _, ok := e.prices.Price(PriceKey{Item: PriceTransition}); !ok {
@@ -282,6 +281,14 @@ func (e *Engine) transitionInside(l Link, m *Medium, k *Construction, strands in
 	}
 	in, _ := e.constructionFor(m, strands, false)
 	return in
+}
+
+// transitionFits reports whether construction k of medium m could be spliced to inside cable
+// at the link's entrances, prices aside: an unlisted outdoor fibre construction on an outdoor
+// link with risers, no plenum and no tray.
+func transitionFits(l Link, m *Medium, k *Construction) bool {
+	return m.Fibre() && l.Outdoor && !l.Plenum && l.RiserM > 0 && k.OutdoorRated && k.Listing == "" &&
+		!slices.Contains(l.PathwayTypes, "tray")
 }
 
 // variants lists the candidates of construction k of medium m for application a: the
@@ -698,6 +705,13 @@ func (e *Engine) choose(l Link) Choice {
 		}
 	}
 	if win == nil {
+		// An outside-plant cable stopped at the 15 m rule could have been spliced to listed
+		// cable at the entrances, but only with a price for the splice enclosure.
+		if _, priced := e.prices.Price(PriceKey{Item: PriceTransition}); !priced && slices.ContainsFunc(all, func(c *candidate) bool {
+			return transitionFits(l, c.m, c.k)
+		}) {
+			summary = append(summary, "no splice to listed cable at the entrances was tried: the price book has no "+PriceKey{Item: PriceTransition}.Path())
+		}
 		ch.Reason = fmt.Sprintf("%s: no medium carries %s over %s m: %s", linkName(l), FormatRate(l.RateGbps),
 			formatNum(l.ChannelM()), strings.Join(summary, "; "))
 		ch.Code = CodeNoMedium

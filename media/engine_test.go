@@ -822,3 +822,31 @@ func TestNoMediumNamesEveryNearMiss(t *testing.T) {
 		}
 	}
 }
+
+// TestNoMediumNamesMissingTransitionPrice: with no price for the entrance splice enclosure
+// (transition_splice_each, optional), outside-plant cable is never spliced to listed cable at
+// the entrances; when that leaves a link with no medium, the reason says which price would
+// have let spanwright try it. With the price, the same link is feasible on a transition.
+func TestNoMediumNamesMissingTransitionPrice(t *testing.T) {
+	t.Parallel()
+	link := Link{ID: "L", RouteM: 600, RiserM: 40, RateGbps: 10, Outdoor: true, ConnectorPairs: 2, Strands: 12,
+		PathwayTypes: []string{"buried", "duct"}}
+	if ch := newEngine(t, nil, nil, EngineOptions{}).Choose(link); !ch.Feasible || ch.Inside == "" {
+		t.Fatalf("with the demo book: feasible %v, inside %q (%s); the test wants a transition", ch.Feasible, ch.Inside, ch.Reason)
+	}
+	book, err := ParsePriceBook("no-transition.yaml", []byte(strings.Replace(string(pricesYAML), "transition_splice_each: 260.00", "", 1)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	e, err := NewEngine(nil, nil, book, EngineOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	ch := e.Choose(link)
+	if ch.Feasible {
+		t.Fatalf("feasible without the transition price: %s %s", ch.Medium, ch.Construction)
+	}
+	if want := "no splice to listed cable at the entrances was tried: the price book has no transition_splice_each"; !strings.Contains(ch.Reason, want) {
+		t.Errorf("reason %q lacks %q", ch.Reason, want)
+	}
+}
