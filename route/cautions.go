@@ -6,7 +6,6 @@ import (
 	"strings"
 
 	"spanwright/geo"
-	"spanwright/route/items"
 )
 
 // Caution is one safety caution a planned scenario calls for: what the crew must do, what in
@@ -139,36 +138,21 @@ func cautionsOf(r *Result) []Caution {
 		}
 	}
 
-	// New civil work, by method, as the bill and plan.gpkg's new_construction count it:
-	// opened spans, trenches or bores for ducts added beside full ones, counted laterals.
+	// New civil work, by method: the bill's pieces (estimate.Construction.Pieces: opened
+	// spans, trenches or bores for ducts added beside full ones, counted laterals).
 	var trench, bore seenList
 	laterals := [2]int{} // trenched, bored
 	handholes := 0
 	if e := r.Estimate; e != nil {
-		book, d := r.Engine.PriceBook(), r.Design()
-		work := func(id string) {
-			sp, ok := net.Span(id)
-			if !ok {
-				return
-			}
-			if items.MethodOf(book, d, &sp) == geo.MethodBore {
-				bore.add(id)
-			} else {
-				trench.add(id)
-			}
-		}
-		for _, id := range r.Opened {
-			work(id)
-		}
-		for _, f := range r.Fill {
-			if f.AddedDucts > 0 {
-				work(f.Span)
-			}
-		}
-		for _, en := range e.Construction.Entrances {
-			if en.LateralM > 0 {
-				lat := &geo.Span{Type: geo.TypeDuct, LengthM: en.LateralM}
-				laterals[b2i(items.MethodOf(book, d, lat) == geo.MethodBore)]++
+		for _, w := range e.Construction.Pieces {
+			isBore := w.Method == geo.MethodBore
+			switch {
+			case w.Span == "":
+				laterals[b2i(isBore)]++
+			case isBore:
+				bore.add(w.Span)
+			default:
+				trench.add(w.Span)
 			}
 		}
 		handholes = len(r.Handholes) + len(e.Construction.RunHandholes) + e.AddedPullPoints
