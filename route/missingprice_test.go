@@ -5,12 +5,12 @@ import (
 	"errors"
 	"os"
 	"path/filepath"
-	"regexp"
 	"strings"
 	"testing"
 
 	"spanwright/media"
 	"spanwright/route"
+	"spanwright/route/internal/testplan"
 	"spanwright/route/internal/testsite"
 	"spanwright/route/plan"
 )
@@ -25,22 +25,8 @@ func TestMissingPricesAtOnce(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	var keep []string
-	skip := false
-	drop := regexp.MustCompile(`^(restoration_per_m|added_duct_per_m|structures_each):`)
-	for _, line := range strings.Split(string(data), "\n") {
-		if drop.MatchString(line) {
-			skip = true
-			continue
-		}
-		if skip && strings.HasPrefix(line, "  ") {
-			continue
-		}
-		skip = false
-		keep = append(keep, line)
-	}
 	path := filepath.Join(t.TempDir(), "prices.yaml")
-	if err := os.WriteFile(path, []byte(strings.Join(keep, "\n")), 0o644); err != nil {
+	if err := os.WriteFile(path, testplan.DropPriceKeys(data, "restoration_per_m", "added_duct_per_m", "structures_each"), 0o644); err != nil {
 		t.Fatal(err)
 	}
 	s, p := testsite.Demo(t)

@@ -147,24 +147,8 @@ func notPricedResult(t *testing.T) (*route.Result, string) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	var keep []string
-	skip := false
-	for _, line := range strings.Split(string(data), "\n") {
-		if strings.HasPrefix(line, "building_entrance_each:") || strings.HasPrefix(line, "entrance_firestop_each:") {
-			continue
-		}
-		if strings.HasPrefix(line, "patch_cords_each:") {
-			skip = true
-			continue
-		}
-		if skip && strings.HasPrefix(line, "  ") {
-			continue
-		}
-		skip = false
-		keep = append(keep, line)
-	}
 	path := filepath.Join(t.TempDir(), "prices.yaml")
-	if err := os.WriteFile(path, []byte(strings.Join(keep, "\n")), 0o644); err != nil {
+	if err := os.WriteFile(path, testplan.DropPriceKeys(data, "building_entrance_each", "entrance_firestop_each", "patch_cords_each"), 0o644); err != nil {
 		t.Fatal(err)
 	}
 	s, p := testsite.Demo(t)

@@ -186,3 +186,22 @@ func CampusSite(tb testing.TB, n int) (*site.Site, *plan.Plan) {
 	}
 	return testsite.Load(tb, p), p
 }
+
+// DropPriceKeys returns the price book data without the top-level keys named, each with the
+// indented lines under it, for tests of a book that leaves prices out.
+func DropPriceKeys(data []byte, keys ...string) []byte {
+	var keep []string
+	skip := false
+	for _, line := range strings.Split(string(data), "\n") {
+		if slices.ContainsFunc(keys, func(k string) bool { return strings.HasPrefix(line, k+":") }) {
+			skip = true
+			continue
+		}
+		if skip && strings.HasPrefix(line, "  ") {
+			continue
+		}
+		skip = false
+		keep = append(keep, line)
+	}
+	return []byte(strings.Join(keep, "\n"))
+}
