@@ -78,25 +78,25 @@ func (p *ductPack) reset(ductIDMM float64) {
 // copyFrom makes p the packing saved in s, for ducts of internal diameter ductIDMM.
 func (p *ductPack) copyFrom(s *packState, ductIDMM float64) {
 	p.ductIDMM, p.areaMM2 = ductIDMM, circleMM2(ductIDMM)
-	p.load = append(p.load[:0], s.load...)
-	p.seg = append(p.seg[:0], s.seg...)
-	p.size = s.size
-	p.twos = slices.Grow(p.twos[:0], len(s.twos))[:len(s.twos)]
-	for i := range s.twos {
-		p.twos[i].load = s.twos[i].load
-		p.twos[i].ducts = append(p.twos[i].ducts[:0], s.twos[i].ducts...)
-	}
+	p.copyParts(s.load, s.seg, s.size, s.twos)
 }
 
 // copyOf makes p a copy of packing q.
 func (p *ductPack) copyOf(q *ductPack) {
-	p.ductIDMM, p.areaMM2, p.size = q.ductIDMM, q.areaMM2, q.size
-	p.load = append(p.load[:0], q.load...)
-	p.seg = append(p.seg[:0], q.seg...)
-	p.twos = slices.Grow(p.twos[:0], len(q.twos))[:len(q.twos)]
-	for i := range q.twos {
-		p.twos[i].load = q.twos[i].load
-		p.twos[i].ducts = append(p.twos[i].ducts[:0], q.twos[i].ducts...)
+	p.ductIDMM, p.areaMM2 = q.ductIDMM, q.areaMM2
+	p.copyParts(q.load, q.seg, q.size, q.twos)
+}
+
+// copyParts makes p's loads, segment tree and groups of two copies of those given, reusing
+// p's storage.
+func (p *ductPack) copyParts(load []install.Load, seg []float64, size int, twos []twoGroup) {
+	p.load = append(p.load[:0], load...)
+	p.seg = append(p.seg[:0], seg...)
+	p.size = size
+	p.twos = slices.Grow(p.twos[:0], len(twos))[:len(twos)]
+	for i := range twos {
+		p.twos[i].load = twos[i].load
+		p.twos[i].ducts = append(p.twos[i].ducts[:0], twos[i].ducts...)
 	}
 }
 
