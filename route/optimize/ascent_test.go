@@ -98,18 +98,6 @@ func (q testQueue) Swap(i, j int)      { q[i], q[j] = q[j], q[i] }
 func (q *testQueue) Push(x any)        { *q = append(*q, x.(testItem)) }
 func (q *testQueue) Pop() any          { o := *q; it := o[len(o)-1]; *q = o[:len(o)-1]; return it }
 
-// freeLevels is what ascendAsync hands the ascent: each valid demand's free level.
-func freeLevels(sv *solver) []int64 {
-	sv.initLegCosts()
-	free := make([]int64, len(sv.p.Demands))
-	for d := range free {
-		if sv.invalid[d] == "" {
-			free[d] = sv.freeLevel(d)
-		}
-	}
-	return free
-}
-
 // TestAscentDualFeasible checks the ascent's prices on seeded instances of every kind the
 // oracle and the campus tests use (transit-free nodes, charges, diverse pairs, duct data), on
 // small ones full of ties (tieInstance), and on two made by hand, after the prices of forced
@@ -130,7 +118,7 @@ func TestAscentDualFeasible(t *testing.T) {
 	for i, p := range probs {
 		name := fmt.Sprintf("problem %d", i)
 		sv := newSolver(p, Settings{})
-		free := freeLevels(sv)
+		free := sv.freeLevels()
 		db := sv.newDualBound(free)
 		sv.forcedPrices(db, free)
 		checkDual(t, sv, db, name+" (forced edges)")
@@ -176,7 +164,7 @@ func forcedLaterals() *Problem {
 func TestForcedPricesLaterals(t *testing.T) {
 	p := forcedLaterals()
 	sv := newSolver(p, Settings{})
-	free := freeLevels(sv)
+	free := sv.freeLevels()
 	db := sv.newDualBound(free)
 	sv.forcedPrices(db, free)
 	checkDual(t, sv, db, "forced laterals")

@@ -7,13 +7,9 @@ import (
 	"spanwright/media/install"
 )
 
-// NFPA 70 Chapter 9 Table 1: the share of a conduit's internal cross-section that its cables may
-// fill (seen), as fractions of the percentages media/install holds.
-const (
-	FillOneCable   = install.FillOneCablePct / 100      // one cable
-	FillTwoCables  = install.FillTwoCablesPct / 100     // two cables
-	FillMoreCables = install.FillOverTwoCablesPct / 100 // three or more cables
-)
+// FillOneCable is the share of a conduit's internal cross-section one cable may fill, NFPA 70
+// Chapter 9 Table 1 (seen), as a fraction of the percentage media/install holds.
+const FillOneCable = install.FillOneCablePct / 100
 
 // FillLimit returns the NFPA 70 Chapter 9 Table 1 fill fraction for n cables in one duct
 // (install.AllowedFillPct); n <= 1 is one cable.
@@ -360,8 +356,7 @@ func (c *capacity) needed(e int, ods []float64, cnt []int32, pack *ductPack) (ad
 		if !placeAll(p, ods, cnt) {
 			return 0, false
 		}
-		added = max(0, len(p.load)-ed.Ducts)
-		return added, added == 0 || ed.canAdd()
+		return ed.addedFor(len(p.load))
 	}
 	flat := c.flatten(ods, cnt)
 	maxAdd := 0
@@ -388,8 +383,7 @@ func (c *capacity) extend(e int, from *packState, to *ductPack, more []float64, 
 	if !placeAll(to, more, moreCnt) {
 		return 0, false
 	}
-	added = max(0, len(to.load)-ed.Ducts)
-	return added, added == 0 || ed.canAdd()
+	return ed.addedFor(len(to.load))
 }
 
 // prefixNeeds returns, for each i, the ducts needed(e, ods[:i+1], cnt[:i+1]) adds, or the
@@ -423,7 +417,7 @@ func (c *capacity) prefixNeeds(e int, ods []float64, cnt []int32) []int {
 			}
 		}
 		if !failed {
-			if added := max(0, len(p.load)-ed.Ducts); added == 0 || ed.canAdd() {
+			if added, ok := ed.addedFor(len(p.load)); ok {
 				prev = added
 			}
 		}

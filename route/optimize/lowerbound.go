@@ -133,6 +133,19 @@ func (sv *solver) freeLevel(d int) int64 {
 	return lv
 }
 
+// freeLevels sets up legCost's table and returns each valid demand's free level (freeLevel;
+// 0 for an invalid demand), what the ascent starts from.
+func (sv *solver) freeLevels() []int64 {
+	sv.initLegCosts()
+	free := make([]int64, len(sv.p.Demands))
+	for d := range free {
+		if sv.invalid[d] == "" {
+			free[d] = sv.freeLevel(d)
+		}
+	}
+	return free
+}
+
 // ascend computes the dual bound of the problem (nil for the length objective).
 func (sv *solver) ascend() *dualBound {
 	return sv.ascendAsync()()
@@ -151,14 +164,7 @@ func (sv *solver) ascendAsync() func() *dualBound {
 	if sv.length {
 		return func() *dualBound { return nil }
 	}
-	sv.initLegCosts()
-	nd := len(sv.p.Demands)
-	free := make([]int64, nd)
-	for d := range free {
-		if sv.invalid[d] == "" {
-			free[d] = sv.freeLevel(d)
-		}
-	}
+	free := sv.freeLevels()
 	out := make(chan *dualBound, 1)
 	sv.abandon.Store(false)
 	go func() { out <- sv.ascendFrom(free) }()

@@ -96,6 +96,13 @@ func (e *Edge) limited() bool { return e.DuctIDMM > 0 }
 // proposed edge always (built to size), on an existing one when they have a price.
 func (e *Edge) canAdd() bool { return e.Proposed || e.AddDuctPerMCents > 0 }
 
+// addedFor is the ducts a packing into ducts ducts adds beyond the edge's own, and whether the
+// edge may have them.
+func (e *Edge) addedFor(ducts int) (added int, ok bool) {
+	added = max(0, ducts-e.Ducts)
+	return added, added == 0 || e.canAdd()
+}
+
 // LaidDucts is how many ducts the plan lays along the edge when its cables need added
 // ducts beyond Ducts: on a proposed edge all of its ducts, Ducts + added; on an existing one
 // none without an added duct, else the added ducts or AddTrenchDucts, whichever is more (one
