@@ -215,3 +215,13 @@ func markKept(xy []vec, tolM float64, keep []bool, stack [][2]int) [][2]int {
 	}
 	return stack
 }
+
+// lineBends is bendsDeg of a longitude/latitude line on the campus's local projection: how a
+// span's bends are measured, whether it was built as drawn or cut at a wall.
+func (b *builder) lineBends(ll orb.LineString) ([]float64, [2]int) {
+	xy := make([]vec, len(ll))
+	for i, p := range ll {
+		xy[i] = b.proj.xy(p)
+	}
+	return bendsDeg(xy)
+}

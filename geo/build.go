@@ -1219,11 +1219,7 @@ func (b *builder) spans(n *Network) {
 			seq[p.pw]++
 			id = pw.ID + "/" + strconv.Itoa(seq[p.pw])
 		}
-		xy := make([]vec, len(pc.pts))
-		for i, p := range pc.pts {
-			xy[i] = b.proj.xy(p)
-		}
-		bends, near := bendsDeg(xy)
+		bends, near := b.lineBends(pc.pts)
 		n.Spans = append(n.Spans, Span{
 			ID: id, PathwayID: pw.ID, From: b.ids[pc.from], To: b.ids[pc.to],
 			LengthM: LengthM(pc.pts), Type: pw.Type, Status: pw.Status, EMI: pw.EMI,

@@ -80,12 +80,8 @@ func (b *builder) cutAtWalls(n *Network) {
 			if sp.From == id {
 				slices.Reverse(kept)
 			}
-			xy := make([]vec, len(kept))
-			for i, p := range kept {
-				xy[i] = b.proj.xy(p)
-			}
 			sp.Line, sp.LengthM = kept, LengthM(kept)
-			sp.BendsDeg, sp.near = bendsDeg(xy)
+			sp.BendsDeg, sp.near = b.lineBends(kept)
 			b.rep[r] = wall
 			if b.cutIn == nil {
 				b.cutIn = make(map[string][]int)

@@ -220,7 +220,6 @@ func (l *Problems) AddNew(err error) {
 }
 
 // Len is the number of problems found, kept or dropped.
-
 func (l *Problems) Len() int { return len(l.List) + l.Dropped }
 
 // Err returns l when it holds a problem and nil otherwise.
