@@ -112,7 +112,7 @@ func (r *Result) InfeasibleLegs() []string {
 	var names []string
 	for _, l := range r.Legs {
 		if !l.Feasible {
-			names = append(names, l.Link.ID+"/"+l.Name+": "+l.Reason)
+			names = append(names, l.Label()+": "+l.Reason)
 		}
 	}
 	return names

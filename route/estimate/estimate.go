@@ -318,13 +318,7 @@ func Build(ctx context.Context, in Input) (*Estimate, error) {
 	r := &run{Input: in, Estimate: &Estimate{}}
 	e := r.Estimate
 	added := map[string]bool{}
-	r.runHH = map[string][]float64{}
-	for _, run := range r.Runs {
-		for _, h := range run.Handholes {
-			id := run.Steps[h.Step].SpanID
-			r.runHH[id] = append(r.runHH[id], h.AtM)
-		}
-	}
+	r.runHH = site.HandholesBySpan(r.Runs)
 	// Each leg's pulls are its own: planned side by side, assembled in leg order.
 	pulls := make([]legPulls, len(r.Legs))
 	if err := ctxio.Each(ctx, len(r.Legs), func(i int) {
@@ -1188,12 +1182,7 @@ func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg) []
 	work := func(item, unit string, amount float64, rate media.PriceKey) {
 		qs = append(qs, media.Quantity{Category: media.CategoryLabour, Item: item, Unit: unit, Amount: amount, Price: items.LabourHour, Rate: rate})
 	}
-	times := func(n float64, items ...media.Quantity) {
-		for _, q := range items {
-			q.Amount *= n
-			qs = append(qs, q)
-		}
-	}
+	times := func(n float64, per ...media.Quantity) { qs = append(qs, items.Times(n, per...)...) }
 	t := l.Cable
 	n := float64(t.Cables)
 	m := eng.Catalog().Medium(l.Medium)

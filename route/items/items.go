@@ -407,3 +407,14 @@ func AddedDuctEntrances(p *media.PriceBook, n int) []media.Quantity {
 	return []media.Quantity{{Category: media.CategoryConstruction, Item: "building entrance for a duct added beside a full one: penetration, sleeve, firestop",
 		Unit: media.UnitEach, Amount: float64(n), Price: media.PriceKey{Item: media.PriceEntrance}}}
 }
+
+// Times is qs with every amount multiplied by n: the items of one cable for n cables, or of
+// one unit of a base for n units.
+func Times(n float64, qs ...media.Quantity) []media.Quantity {
+	out := make([]media.Quantity, len(qs))
+	for i, q := range qs {
+		q.Amount *= n
+		out[i] = q
+	}
+	return out
+}

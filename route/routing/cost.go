@@ -249,7 +249,7 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 	d := m.design
 	// Handholes along runs of new construction (runsOf), by span: each is paid with its span,
 	// and a run is opened whole (site.NewRun).
-	runHH := runHandholes(runs)
+	runHH := site.HandholesBySpan(runs)
 	if err := m.prices.Check(m.priceNeeds(s, lay, runs, links)); err != nil {
 		return nil, nil, nil, err // every price the problem needs and the book lacks, at once
 	}
@@ -504,7 +504,7 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link) (optimize.Demand,
 		// out (problem), with waste (perM is all its cables'), and for each cable their pulls
 		// and the crew's work at its ends; a diverse link pays them again for its second leg,
 		// when it gets one.
-		fixed += media.MulCents(perM, items.Wasted(d, ends)) + m.cents(times(cables, endItems)...) +
+		fixed += media.MulCents(perM, items.Wasted(d, ends)) + m.cents(items.Times(float64(cables), endItems...)...) +
 			m.bidPer(media.BidBases{Structures: 1}, entered*float64(cables)) + legBid
 		second := int64(0)
 		if l.Diverse {
@@ -629,29 +629,6 @@ func cableFit(m *media.Medium, strands, copperCables int) (odMM float64, cables 
 	return odMM, max(cables, 1)
 }
 
-// times is quantities qs for n of what they count (each Amount × n), copied.
-func times(n int, qs []media.Quantity) []media.Quantity {
-	out := make([]media.Quantity, len(qs))
-	for i, q := range qs {
-		q.Amount *= float64(n)
-		out[i] = q
-	}
-	return out
-}
-
-// runHandholes lists the handholes along runs of new construction by span ID, each at metres
-// from the span's from end.
-func runHandholes(runs []site.NewRun) map[string][]float64 {
-	out := map[string][]float64{}
-	for _, r := range runs {
-		for _, h := range r.Handholes {
-			id := r.Steps[h.Step].SpanID
-			out[id] = append(out[id], h.AtM)
-		}
-	}
-	return out
-}
-
 // runsOf is the site's runs of new construction with the handholes the design places along
 // them (site.NewRuns).
 func (m *Model) runsOf(s *site.Site) []site.NewRun {
@@ -676,12 +653,7 @@ func crewHalves(s *site.Site, js ...string) (pull, entered float64) {
 // bidPer prices the bid items per unit of the basis set to 1 in bases (items.BidPer), for
 // amount units.
 func (m *Model) bidPer(bases media.BidBases, amount float64) int64 {
-	var c int64
-	for _, q := range m.bidItems(bases) {
-		q.Amount *= amount
-		c += m.prices.Cents(q)
-	}
-	return c
+	return m.cents(items.Times(amount, m.bidItems(bases)...)...)
 }
 
 // bidItems is items.BidPer(m.prices, bases), remembered: the problem asks it for every span

@@ -171,7 +171,7 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 			}
 		}
 	}
-	runHH := runHandholes(r.Runs)
+	runHH := site.HandholesBySpan(r.Runs)
 	// Each link's legs are its own (the engine's caches are safe for concurrent use, the
 	// rest is read): worked out side by side, assembled in link order.
 	legs := make([][]Leg, len(links))

@@ -147,7 +147,7 @@ func (p SplicePoint) Text(length func(m float64) string) string {
 // from the served building, each with where it is along the channel: the campus's own at the
 // junctions of its route, its ends included (items.Entered), and the handholes the plan
 // builds on its way (Added): where it turns between pathways (Leg.Turns), where a lateral at
-// either end taps a duct (site.Site.LegTaps), along the runs of new construction on its spans
+// either end taps a duct (site.Site.TapOf), along the runs of new construction on its spans
 // (runHH, by span ID, metres from the span's from end: site.NewRun's handholes) and where its
 // new pathway joins the network (items.JoinEnds, which counts a route from one new span into
 // another at such a junction twice, as the optimizer does). A handhole the pulling plan adds

@@ -108,17 +108,3 @@ func (s *Site) Tap(j string) bool {
 // TapOf reports whether entry e reaches its building by a counted lateral that taps a duct
 // (Tap at its junction): the lateral's handhole is part of using the entrance (items.Entrance).
 func (s *Site) TapOf(e geo.Entry) bool { return e.LateralM > 0 && s.Tap(e.Junction) }
-
-// LegTaps lists the junctions where the laterals of the entrances a leg uses, id to in building
-// to and from in building from, tap a duct (TapOf): the served end's first.
-func (s *Site) LegTaps(to, entranceTo, from, entranceFrom string) []string {
-	var out []string
-	for _, end := range [][2]string{{to, entranceTo}, {from, entranceFrom}} {
-		for _, e := range s.Net.EntrancesOf(end[0]) {
-			if e.ID == end[1] && s.TapOf(e) {
-				out = append(out, e.Junction)
-			}
-		}
-	}
-	return out
-}

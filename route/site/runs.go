@@ -290,3 +290,16 @@ func (s *Site) place(steps []geo.Step, spacingM, budgetDeg float64) []RunHandhol
 	}
 	return out
 }
+
+// HandholesBySpan lists the handholes along runs by span ID, each at metres from the span's
+// from end, in run order.
+func HandholesBySpan(runs []NewRun) map[string][]float64 {
+	out := map[string][]float64{}
+	for _, r := range runs {
+		for _, h := range r.Handholes {
+			id := r.Steps[h.Step].SpanID
+			out[id] = append(out[id], h.AtM)
+		}
+	}
+	return out
+}
