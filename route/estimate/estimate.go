@@ -153,6 +153,15 @@ type DuctFill struct {
 	Unplaced bool
 }
 
+// Note is what an installer is told of the duct: that too many separate cables are pulled into
+// it (install.CrowdedNote); "" for none or for cables that fit no duct.
+func (f DuctFill) Note() string {
+	if f.Unplaced {
+		return ""
+	}
+	return install.CrowdedNote(len(f.CablesODMM), f.Innerduct)
+}
+
 // Connectivity is what one building terminates: fibre strands on adapter panels in
 // enclosures, pigtail splices in trays, copper cables on patch panels.
 type Connectivity struct {

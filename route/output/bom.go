@@ -14,7 +14,6 @@ import (
 	"spanwright/media/install"
 	"spanwright/route"
 	"spanwright/route/escape"
-	"spanwright/route/estimate"
 	"spanwright/route/routing"
 	"spanwright/route/workbook"
 )
@@ -94,22 +93,26 @@ func fromText(l media.BOMLine) string { return strings.Join(l.From, "; ") }
 // for the note fromCell adds.
 const xlCellChars = 32767 - 100
 
-// fromCell is fromText for a workbook cell: when the sources do not fit one cell it keeps
-// as many whole sources as fit and says how many more bom.csv lists.
-func fromCell(l media.BOMLine) string {
-	text := fromText(l)
+// fromCell is fromText for a workbook cell (fitCell), the rest in bom.csv.
+func fromCell(l media.BOMLine) string { return fitCell(l.From, "; ", "bom.csv") }
+
+// fitCell is items joined by sep for a workbook cell: when they do not fit one cell
+// (xlCellChars) it keeps as many whole items as fit and says how many more the file named
+// where lists.
+func fitCell(items []string, sep, where string) string {
+	text := strings.Join(items, sep)
 	if utf8.RuneCountInString(text) <= xlCellChars {
 		return text
 	}
 	n, kept := 0, 0
-	for _, f := range l.From {
-		if n+utf8.RuneCountInString(f)+2 > xlCellChars {
+	for _, it := range items {
+		if n+utf8.RuneCountInString(it)+len(sep) > xlCellChars {
 			break
 		}
-		n += utf8.RuneCountInString(f) + 2
+		n += utf8.RuneCountInString(it) + len(sep)
 		kept++
 	}
-	return fmt.Sprintf("%s; and %d more, all in bom.csv", strings.Join(l.From[:kept], "; "), len(l.From)-kept)
+	return fmt.Sprintf("%s%sand %d more, all in %s", strings.Join(items[:kept], sep), sep, len(items)-kept, where)
 }
 
 // bomCSV renders bom.csv: one row per line (category, item, unit, quantity, unit price,
@@ -465,7 +468,7 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 		fill.Append(workbook.Text(f.Span), workbook.Text(f.PathwayID), duct, workbook.Bool(f.Added),
 			workbook.Number(u.MM(f.DuctIDMM), 2), workbook.Int(int64(len(f.CablesODMM))), workbook.Text(strings.Join(ods, " ")),
 			pct, limit, jam, workbook.Bool(f.JamRisk), workbook.Bool(f.OK), workbook.Text(strings.Join(f.Legs, " ")),
-			workbook.Text(ductNote(f)))
+			workbook.Text(f.Note()))
 	}
 	for i := range r.Legs {
 		l := &r.Legs[i]
@@ -495,33 +498,8 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 // SheetSafety is the name of bom.xlsx's sheet of safety cautions.
 const SheetSafety = "safety"
 
-// ductNote is what an installer is told of a duct of the duct fill: that too many separate
-// cables are pulled into it (install.CrowdedNote); "" for none or for cables that fit no duct.
-func ductNote(f estimate.DuctFill) string {
-	if f.Unplaced {
-		return ""
-	}
-	return install.CrowdedNote(len(f.CablesODMM), f.Innerduct)
-}
-
-// listCell is ids separated by spaces for a workbook cell: when they do not fit one cell
-// (xlCellChars) it keeps as many whole ids as fit and says how many more the file named
-// lists, as fromCell does.
-func listCell(ids []string, where string) string {
-	text := strings.Join(ids, " ")
-	if utf8.RuneCountInString(text) <= xlCellChars {
-		return text
-	}
-	n, kept := 0, 0
-	for _, id := range ids {
-		if n+utf8.RuneCountInString(id)+1 > xlCellChars {
-			break
-		}
-		n += utf8.RuneCountInString(id) + 1
-		kept++
-	}
-	return fmt.Sprintf("%s and %d more, all in %s", strings.Join(ids[:kept], " "), len(ids)-kept, where)
-}
+// listCell is ids separated by spaces for a workbook cell (fitCell), the rest in where.
+func listCell(ids []string, where string) string { return fitCell(ids, " ", where) }
 
 // passage is the links sheet's last cells of a leg, as text: links.csv's last columns (see
 // passageText), then the reason code.

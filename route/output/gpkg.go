@@ -346,7 +346,8 @@ func planLayers(ctx context.Context, r *route.Result) ([]gpkgout.Layer, error) {
 		}
 		add(LayerStructures, sp.PointAt(h.AtM), nil, h.Span, round1(h.AtM), PurposeRun, ListText(spanLinks[h.Span]))
 	}
-	for _, p := range addedPullPoints(r) {
+	pulls := addedPullPoints(r)
+	for _, p := range pulls {
 		if p.junction != "" {
 			j, ok := net.Junction(p.junction)
 			if !ok {
@@ -367,7 +368,7 @@ func planLayers(ctx context.Context, r *route.Result) ([]gpkgout.Layer, error) {
 	}
 
 	// The structures table.
-	sts, err := StructuresOf(r)
+	sts, err := structuresOf(r, pulls)
 	if err != nil {
 		return nil, err
 	}

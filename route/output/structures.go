@@ -62,7 +62,11 @@ func (s Structure) Place(length func(m float64) string) string {
 // Marks number them in that order; rows may share their Legs, which are not to be changed.
 // The legs through a structure at a junction are those whose spans meet there; through one
 // on a span, those on the span; through a pull point on a lateral, those pulled there.
-func StructuresOf(r *route.Result) ([]Structure, error) {
+func StructuresOf(r *route.Result) ([]Structure, error) { return structuresOf(r, addedPullPoints(r)) }
+
+// structuresOf is StructuresOf given the plan's added pull points (addedPullPoints), for a
+// caller that has them already.
+func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 	net := r.Site.Net
 	// The junctions and spans whose legs the table names, and then those legs: only these,
 	// for a large plan's legs pass tens of thousands of others.
@@ -73,7 +77,6 @@ func StructuresOf(r *route.Result) ([]Structure, error) {
 	for _, st := range r.Site.Campus.Structures {
 		atJunction[st.ID] = nil
 	}
-	pulls := addedPullPoints(r)
 	for _, p := range pulls {
 		switch {
 		case p.junction != "":

@@ -1046,10 +1046,7 @@ func ductRows(fs []estimate.DuctFill, opt Options) ([]ductRow, int, listed) {
 		if f.JamRatio > 0 {
 			row.Jam = strconv.FormatFloat(f.JamRatio, 'f', 2, 64)
 		}
-		row.Legs = strings.Join(f.Legs, ", ")
-		if !f.Unplaced {
-			row.Note = install.CrowdedNote(len(f.CablesODMM), f.Innerduct)
-		}
+		row.Legs, row.Note = strings.Join(f.Legs, ", "), f.Note()
 		if f.Unplaced {
 			row.Fill, row.Allowed, row.BarW, row.LimitX = "fit no duct", "", num(0), num(0)
 		}
