@@ -1055,23 +1055,35 @@ func (c *Construction) listPieces() {
 	c.NewM, c.LateralM = float64(int64(math.Round(c.NewM*10)))/10, float64(int64(math.Round(c.LateralM*10)))/10
 }
 
-// ListedM is the listed metres (WorkPiece.ListedM) of the new work along span id (opened, or
-// a trench beside it for added ducts); false when the plan builds none there.
-func (c *Construction) ListedM(span string) (float64, bool) {
+// PieceOf is the new work along span id (opened, or a trench beside it for added ducts);
+// false when the plan builds none there.
+func (c *Construction) PieceOf(span string) (WorkPiece, bool) {
 	i, ok := c.pieceOfSpan[span]
 	if !ok {
-		return 0, false
+		return WorkPiece{}, false
 	}
-	return c.Pieces[i].ListedM, true
+	return c.Pieces[i], true
 }
 
-// LateralListedM is ListedM of the counted lateral to a building's entrance.
-func (c *Construction) LateralListedM(building, entrance string) (float64, bool) {
+// LateralPiece is PieceOf the counted lateral to a building's entrance.
+func (c *Construction) LateralPiece(building, entrance string) (WorkPiece, bool) {
 	i, ok := c.pieceOfLateral[[2]string{building, entrance}]
 	if !ok {
-		return 0, false
+		return WorkPiece{}, false
 	}
-	return c.Pieces[i].ListedM, true
+	return c.Pieces[i], true
+}
+
+// ListedM is the listed metres (WorkPiece.ListedM) of PieceOf(span).
+func (c *Construction) ListedM(span string) (float64, bool) {
+	w, ok := c.PieceOf(span)
+	return w.ListedM, ok
+}
+
+// LateralListedM is the listed metres of LateralPiece(building, entrance).
+func (c *Construction) LateralListedM(building, entrance string) (float64, bool) {
+	w, ok := c.LateralPiece(building, entrance)
+	return w.ListedM, ok
 }
 
 // construction totals the new civil work: opened spans (trench and restoration on their

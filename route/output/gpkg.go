@@ -16,7 +16,6 @@ import (
 	"spanwright/route/estimate"
 	"spanwright/route/fileset"
 	"spanwright/route/internal/ctxio"
-	"spanwright/route/items"
 	"spanwright/route/routing"
 )
 
@@ -283,16 +282,11 @@ func planLayers(ctx context.Context, r *route.Result) ([]gpkgout.Layer, error) {
 		if !ok {
 			return nil, fmt.Errorf("span %s of the new construction: not in the network", w.span)
 		}
-		method := items.MethodOf(r.Engine.PriceBook(), r.Design(), &sp)
-		var surface any
-		if method != geo.MethodBore {
-			surface = items.SurfaceOf(r.Design(), &sp)
-		}
-		listed, ok := r.Estimate.Construction.ListedM(sp.ID) // apportioned: the pieces add up to the bill's lines
+		pc, ok := r.Estimate.Construction.PieceOf(sp.ID) // its method, surface and listed metres (the pieces add up to the bill's lines)
 		if !ok {
 			return nil, fmt.Errorf("span %s of the new construction: not in the estimate's pieces", w.span)
 		}
-		add(LayerConstruction, sp.Line, sp.ID, sp.PathwayID, w.kind, method, surface, listed, w.added, nil)
+		add(LayerConstruction, sp.Line, sp.ID, sp.PathwayID, w.kind, pc.Method, surfaceOf(pc), pc.ListedM, w.added, nil)
 	}
 	// Counted laterals the plan builds to the entrances it uses, as the estimate counts them.
 	for _, en := range r.Estimate.Construction.Entrances {
@@ -305,17 +299,11 @@ func planLayers(ctx context.Context, r *route.Result) ([]gpkgout.Layer, error) {
 				line = e.Lateral
 			}
 		}
-		lat := &geo.Span{Type: geo.TypeDuct, LengthM: en.LateralM}
-		method := items.MethodOf(r.Engine.PriceBook(), r.Design(), lat)
-		var surface any
-		if method != geo.MethodBore {
-			surface = items.SurfaceOf(r.Design(), lat)
-		}
-		listed, ok := r.Estimate.Construction.LateralListedM(en.Building, en.Entrance)
+		pc, ok := r.Estimate.Construction.LateralPiece(en.Building, en.Entrance)
 		if !ok {
 			return nil, fmt.Errorf("lateral to entrance %s of building %s: not in the estimate's pieces", en.Entrance, en.Building)
 		}
-		add(LayerConstruction, line, nil, nil, WorkLateral, method, surface, listed, 0, en.Entrance)
+		add(LayerConstruction, line, nil, nil, WorkLateral, pc.Method, surfaceOf(pc), pc.ListedM, 0, en.Entrance)
 	}
 
 	// Handholes the plan adds: where routes join or turn, then the pulling plan's.
@@ -555,4 +543,12 @@ func addedPullPoints(r *route.Result) []pullPoint {
 type geoSpan struct {
 	id      string
 	lengthM float64
+}
+
+// surfaceOf is a piece of new work's surface for new_construction: NULL for a bore.
+func surfaceOf(pc estimate.WorkPiece) any {
+	if pc.Method == geo.MethodBore {
+		return nil
+	}
+	return pc.Surface
 }
