@@ -37,9 +37,13 @@ import (
 // ctx is done it stops between two scenarios and returns an error wrapping ctx's.
 func (r *runner) preflight(ctx context.Context, list []Scenario) error {
 	var out input.Problems
+	seen := map[string]bool{} // the texts out holds: AddNew one at a time would rebuild its set each call
 	add := func(p *input.Problem) {
 		p.Class = ErrInvalid
-		out.AddNew(p) // once, however many scenarios have it
+		if t := p.Error(); !seen[t] { // once, however many scenarios have it
+			seen[t] = true
+			out.Add(p)
+		}
 	}
 	// Problems not placed at an override (the base plan's, another file's), by message, with
 	// the scenarios that have them.
