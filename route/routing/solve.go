@@ -399,8 +399,8 @@ func (m *Model) passGapCents(s *site.Site, lay *layout, prob *optimize.Problem, 
 	var c int64
 	ol := []optimize.Leg{rt.Primary, rt.Secondary}
 	for k := range legs {
-		if k >= len(ol) || len(ol[k].Hops) == 0 {
-			continue
+		if k >= len(ol) || len(ol[k].Hops) == 0 || !legs[k].Feasible {
+			continue // a leg the rules reject is the optimizer's as routed: the bill has none of it
 		}
 		var loops, crews float64 // what the edges priced
 		for _, h := range ol[k].Hops {
