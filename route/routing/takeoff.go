@@ -237,13 +237,14 @@ func passesOf(s *site.Site, d plan.Design, leg *Leg, built builtOn) ([]SplicePoi
 
 // throughHandhole reports whether the leg's cable goes through a handhole built at juncs[k]
 // (passesOf): unless it only passes there on aerial spans, overhead, with no lateral of its
-// own tapping there and no turn there.
+// own tapping there, no turn there and no new span of its own joining the network there.
 func throughHandhole(s *site.Site, leg *Leg, juncs []string, k int) bool {
 	if k == 0 || k == len(juncs)-1 || slices.Contains(leg.Turns, juncs[k]) {
 		return true // a leg's end: its lateral taps there, or it ends in the handhole
 	}
 	for _, q := range []int{k - 1, k} { // the spans ending and starting here
-		if sp, ok := s.Net.Span(leg.Steps[q].SpanID); ok && sp.Type != geo.TypeAerial {
+		sp, ok := s.Net.Span(leg.Steps[q].SpanID)
+		if ok && (sp.Type != geo.TypeAerial || (sp.Status == geo.StatusProposed && s.JoinsNetwork(juncs[k]))) {
 			return true
 		}
 	}
