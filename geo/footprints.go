@@ -21,6 +21,11 @@ const SameFootprintShare = 0.5
 // bounding box at: 64 × 64 points measure the share to within about 1/64 of the box a side.
 const footprintSamples = 64
 
+// maxFootprintWarnings is how many pairs of overlapping footprints sameFootprints names:
+// past it, the search stops with one more warning, so that a file of buildings all drawn on
+// top of one another (every floor of every building, say) costs no more than that many.
+const maxFootprintWarnings = 100
+
 // sameFootprints warns of every two buildings whose footprints overlap by at least
 // SameFootprintShare of the smaller, on the smaller (the later id of two equal ones), naming
 // the other. bs is in id order; so are the warnings, whatever the order of the input.
@@ -37,6 +42,7 @@ func sameFootprints(bs []Building) []warnRec {
 	}
 	slices.SortFunc(boxes, func(a, b box) int { return cmp.Or(cmp.Compare(a.bound.Min[0], b.bound.Min[0]), cmp.Compare(a.i, b.i)) })
 	var out []warnRec
+search:
 	for k, a := range boxes {
 		for _, b := range boxes[k+1:] {
 			if b.bound.Min[0] > a.bound.Max[0] {
@@ -46,9 +52,17 @@ func sameFootprints(bs []Building) []warnRec {
 				continue
 			}
 			i, j := min(a.i, b.i), max(a.i, b.i)
-			if w, ok := overlapWarning(bs[i], bs[j]); ok {
-				out = append(out, w)
+			w, ok := overlapWarning(bs[i], bs[j])
+			if !ok {
+				continue
 			}
+			if len(out) == maxFootprintWarnings {
+				out = append(out, warnRec{src: w.src, id: w.id, msg: fmt.Sprintf(
+					"its footprint overlaps another building's too, and more may: the search for buildings drawn twice stopped after %d pairs (is a layer of the campus drawn twice?)",
+					maxFootprintWarnings)})
+				break search
+			}
+			out = append(out, w)
 		}
 	}
 	slices.SortFunc(out, func(a, b warnRec) int { return cmp.Or(cmp.Compare(a.id, b.id), cmp.Compare(a.msg, b.msg)) })
@@ -58,6 +72,9 @@ func sameFootprints(bs []Building) []warnRec {
 // overlapWarning is the warning on two buildings whose footprints overlap by at least
 // SameFootprintShare of the smaller; a comes before b in id order.
 func overlapWarning(a, b Building) (warnRec, bool) {
+	if a.Footprint.Equal(b.Footprint) { // drawn twice to the last digit: no sampling needed
+		return warnRec{src: b.Source, id: b.ID, msg: sameText("its footprint is the same as", a)}, true
+	}
 	ba, bb := a.Footprint.Bound(), b.Footprint.Bound()
 	c := ba.Union(bb).Center()
 	loc := NewLocal(c[0], c[1])
@@ -85,11 +102,11 @@ func overlapWarning(a, b Building) (warnRec, bool) {
 	for ix := range footprintSamples {
 		for iy := range footprintSamples {
 			p := orb.Point{sb.Min[0] + (float64(ix)+0.5)*dx, sb.Min[1] + (float64(iy)+0.5)*dy}
-			if !planar.MultiPolygonContains(small, p) {
+			if !evenOdd(small, p) {
 				continue
 			}
 			inSmall++
-			if lb.Contains(p) && planar.MultiPolygonContains(large, p) {
+			if lb.Contains(p) && evenOdd(large, p) {
 				inBoth++
 			}
 		}
@@ -105,9 +122,32 @@ func overlapWarning(a, b Building) (warnRec, bool) {
 	if share == 1 && math.Abs(areaA-areaB) <= 0.01*smallArea {
 		what = "its footprint is the same as"
 	}
-	return warnRec{src: smallB.Source, id: smallB.ID, msg: fmt.Sprintf(
-		"%s that of building %q (%s): one building drawn twice (an old polygon left by a re-survey or a GIS join)? Both are planned, each with its own links and entrances; remove the one that is not a building, or draw one building's parts as one MultiPolygon",
-		what, largeB.ID, largeB.Source)}, true
+	return warnRec{src: smallB.Source, id: smallB.ID, msg: sameText(what, largeB)}, true
+}
+
+// sameText is the warning on a building whose footprint (what of it: "its footprint is the
+// same as", "80 % of its footprint lies inside") lies in other's.
+func sameText(what string, other Building) string {
+	return fmt.Sprintf("%s that of building %q (%s): one building drawn twice (an old polygon left by a re-survey or a GIS join)? Both are planned, each with its own links and entrances; remove the one that is not a building, or draw one building's parts as one MultiPolygon",
+		what, other.ID, other.Source)
+}
+
+// evenOdd reports whether p is inside the footprint mp by the even-odd rule over all its
+// rings (a hole's points are outside, as are those of a ring's self-crossing's second lap).
+// Points on a ring count either way: the share sampled is of areas, not of edges.
+func evenOdd(mp orb.MultiPolygon, p orb.Point) bool {
+	in := false
+	for _, poly := range mp {
+		for _, r := range poly {
+			for i, j := 0, len(r)-1; i < len(r); j, i = i, i+1 {
+				a, b := r[i], r[j]
+				if (a[1] > p[1]) != (b[1] > p[1]) && p[0] < a[0]+(p[1]-a[1])*(b[0]-a[0])/(b[1]-a[1]) {
+					in = !in
+				}
+			}
+		}
+	}
+	return in
 }
 
 // localFootprint is a footprint in metres of loc.

@@ -2,9 +2,13 @@ package geo
 
 import (
 	"fmt"
+	"math/rand/v2"
 	"reflect"
 	"strings"
 	"testing"
+
+	"github.com/paulmach/orb"
+	"github.com/paulmach/orb/planar"
 )
 
 // gisCampus is a FeatureCollection of features, each a JSON object without its "type".
@@ -313,5 +317,45 @@ func TestUnclosedRingGap(t *testing.T) {
 	want = `ring 1: not closed: first position [10.0001, 50], last [10, 50], 7.2 m apart`
 	if err == nil || !strings.Contains(err.Error(), want) {
 		t.Errorf("got %v, want %q", err, want)
+	}
+}
+
+// TestSameFootprintsCapped: a campus whose buildings are all drawn on one another names
+// maxFootprintWarnings pairs and says the search stopped, rather than comparing every pair.
+func TestSameFootprintsCapped(t *testing.T) {
+	t.Parallel()
+	var bs []Building
+	for i := range 300 {
+		d := float64(i) * 1e-7 // about a centimetre apart: no two the same to the last digit
+		bs = append(bs, Building{Source: Source{File: "c.geojson", Index: i}, ID: fmt.Sprintf("B%03d", i),
+			Footprint: orb.MultiPolygon{{{{10 + d, 50}, {10.001 + d, 50}, {10.001 + d, 50.001}, {10 + d, 50.001}, {10 + d, 50}}}}})
+	}
+	ws := sameFootprints(bs)
+	stopped := 0
+	for _, w := range ws {
+		if strings.Contains(w.msg, "stopped after 100 pairs") {
+			stopped++
+		}
+	}
+	if len(ws) != maxFootprintWarnings+1 || stopped != 1 {
+		t.Errorf("got %d warnings, %d saying the search stopped; want %d and 1", len(ws), stopped, maxFootprintWarnings+1)
+	}
+}
+
+// TestEvenOddMatchesPlanar holds sameFootprints' point-in-footprint test to orb/planar's
+// MultiPolygonContains (the reference library) on random points around a footprint of two
+// polygons, one with a hole, away from their edges.
+func TestEvenOddMatchesPlanar(t *testing.T) {
+	t.Parallel()
+	mp := orb.MultiPolygon{
+		{{{0, 0}, {10, 0}, {10, 10}, {5, 14}, {0, 10}, {0, 0}}, {{3, 3}, {3, 6}, {6, 6}, {6, 3}, {3, 3}}},
+		{{{20, 0}, {30, 5}, {20, 10}, {24, 5}, {20, 0}}},
+	}
+	r := rand.New(rand.NewPCG(3, 4))
+	for range 20000 {
+		p := orb.Point{r.Float64()*40 - 5, r.Float64()*20 - 5}
+		if got, want := evenOdd(mp, p), planar.MultiPolygonContains(mp, p); got != want {
+			t.Fatalf("point %v: got %v, want %v", p, got, want)
+		}
 	}
 }
