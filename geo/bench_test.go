@@ -1,6 +1,7 @@
 package geo
 
 import (
+	"fmt"
 	"math/rand/v2"
 	"sync"
 	"testing"
@@ -107,6 +108,23 @@ func BenchmarkDuplicateKeys(b *testing.B) {
 	for b.Loop() {
 		if d := input.JSONDuplicates(data); len(d) != 0 {
 			b.Fatal(d)
+		}
+	}
+}
+
+// BenchmarkSameFootprints is the search for buildings drawn twice on its worst input: 300
+// buildings drawn on one another, a centimetre apart, which stops after
+// maxFootprintWarnings pairs.
+func BenchmarkSameFootprints(b *testing.B) {
+	var bs []Building
+	for i := range 300 {
+		d := float64(i) * 1e-7
+		bs = append(bs, Building{Source: Source{File: "c.geojson", Index: i}, ID: fmt.Sprintf("B%03d", i),
+			Footprint: orb.MultiPolygon{{{{10 + d, 50}, {10.001 + d, 50}, {10.001 + d, 50.001}, {10 + d, 50.001}, {10 + d, 50}}}}})
+	}
+	for b.Loop() {
+		if len(sameFootprints(bs)) != maxFootprintWarnings+1 {
+			b.Fatal("want the search capped")
 		}
 	}
 }

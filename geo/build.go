@@ -95,7 +95,7 @@ func BuildContext(ctx context.Context, c *Campus, opt Options) (*Network, error)
 		return nil, fmt.Errorf("geo: build: bad options: SnapM %v, MaxLateralM %v and NearMissM %v must be finite and > 0",
 			opt.SnapM, opt.MaxLateralM, opt.NearMissM)
 	}
-	b := &builder{c: c, snap: snap, maxLat: maxLat, nearMiss: nearMiss}
+	b := &builder{c: c, snap: snap, maxLat: maxLat, nearMiss: nearMiss, warns: slices.Clone(c.warns)}
 	if b.validate(); b.errs.Len() > 0 {
 		return nil, &b.errs
 	}

@@ -166,4 +166,9 @@ type Campus struct {
 	Pathways   []Pathway
 	Structures []Structure
 	Entrances  []Entrance
+
+	// warns are the findings of the reading that stop nothing (a feature's id member that
+	// differs from its id property, two footprints that overlap); Build gives them among
+	// the Network's Warnings.
+	warns []warnRec
 }

@@ -165,17 +165,9 @@ func reprojectCoords(v any, to orb.Projection, failed **orb.Point) {
 // read; "" when it has none usable.
 func rawFeatureID(obj map[string]any) string {
 	props, _ := obj["properties"].(map[string]any)
-	if s, ok := props[PropID].(string); ok {
-		return s
+	if id, err := idText(props[PropID]); err != nil || id != "" {
+		return id
 	}
-	if props[PropID] != nil {
-		return ""
-	}
-	switch m := obj["id"].(type) {
-	case string:
-		return m
-	case json.Number:
-		return string(m)
-	}
-	return ""
+	id, _ := idText(obj["id"])
+	return id
 }

@@ -98,9 +98,12 @@ func problemf(kind error, format string, args ...any) error {
 //
 // Each feature's "kind" property says what it is; without one, polygons are buildings, lines
 // are pathways and points are structures. A feature's id is its "id" property, or the
-// Feature's own "id" member (string or number) when the property is absent. Ids share one
-// namespace across all kinds. A property whose value is JSON null counts as absent; unknown
-// properties are ignored.
+// Feature's own "id" member when the property is absent, each a string or a whole number
+// (its decimal text); when both are given and differ, the property wins with a warning. Ids
+// share one namespace across all kinds. A property whose value is JSON null or the empty
+// string counts as absent; unknown properties are ignored. Campus-wide findings that stop
+// nothing (ids that differ, footprints that overlap: sameFootprints) become warnings of
+// Build.
 func Parse(name string, data []byte) (*Campus, error) {
 	l := newLoader()
 	l.parseFile(name, data)
@@ -233,10 +236,58 @@ func (r *Reader) Problem(p *input.Problem) { r.l.errs.Add(p) }
 func (r *Reader) Campus() (*Campus, error) { return r.l.finishContext() }
 
 type loader struct {
-	ctx  context.Context // the Reader's; parseFile stops reading features when it is done
-	c    Campus
-	errs input.Problems
-	ids  map[string]idUse
+	ctx   context.Context // the Reader's; parseFile stops reading features when it is done
+	c     Campus
+	errs  input.Problems
+	warns []warnRec // what reading found that is no problem (Campus.warns)
+	ids   map[string]idUse
+	// idDiffers are the features whose id member differs from their id property, in the
+	// order read (idWarnings).
+	idDiffers []idDiff
+}
+
+// idDiff is a feature whose Feature "id" member (as a message prints it) differs from its
+// "id" property, the feature's id.
+type idDiff struct {
+	src    Source
+	id     string
+	member string
+}
+
+// idWarningsEach is how many features of one file whose id member differs from their id
+// property are warned about one by one; more are one warning, on the first.
+const idWarningsEach = 3
+
+// idWarnings warns of the features whose id member differs from their id property: each,
+// or one warning per file when a file has more than idWarningsEach (an export that writes
+// its own key as the member, say).
+func (l *loader) idWarnings() {
+	byFile := map[string][]idDiff{}
+	var files []string
+	for _, d := range l.idDiffers {
+		if byFile[d.src.File] == nil {
+			files = append(files, d.src.File)
+		}
+		byFile[d.src.File] = append(byFile[d.src.File], d)
+	}
+	for _, file := range files {
+		ds := byFile[file]
+		if len(ds) <= idWarningsEach {
+			for _, d := range ds {
+				l.warn(d.src, d.id, fmt.Sprintf("the Feature's \"id\" member %s differs from its \"id\" property %q; the property is the feature's id",
+					d.member, d.id))
+			}
+			continue
+		}
+		d := ds[0]
+		l.warn(d.src, d.id, fmt.Sprintf("the Feature's \"id\" member %s differs from its \"id\" property %q, and so do those of %s of this file; the property is each feature's id",
+			d.member, d.id, input.Counted(len(ds)-1, "more feature", "more features")))
+	}
+}
+
+// warn notes a finding of the reading that does not stop it, on the feature of id at src.
+func (l *loader) warn(src Source, id, msg string) {
+	l.warns = append(l.warns, warnRec{src: src, id: id, msg: msg})
 }
 
 // idUse records the first feature that used an id.
@@ -272,14 +323,59 @@ func (l *loader) finish() (*Campus, error) {
 		return cmp.Or(strings.Compare(a.Building, b.Building), cmp.Compare(a.Point[0], b.Point[0]),
 			cmp.Compare(a.Point[1], b.Point[1]), strings.Compare(a.ID, b.ID))
 	})
+	read := len(l.errs.List)
 	l.checkEntrances()
 	l.checkMC()
 	if l.errs.Len() > 0 {
+		l.placeLate(read)
 		return nil, &l.errs
 	}
 	c := l.c
 	c.sortFeatures()
+	l.idWarnings()
+	c.warns = append(slices.Clone(l.warns), sameFootprints(c.Buildings)...)
 	return &c, nil
+}
+
+// placeLate puts the problems from index read on, found by the checks of the campus as a
+// whole once every feature is read (an entrance's building, a second mc), among those found
+// while reading: after the last problem of their file, and before those of the features
+// after theirs there, so that every problem is listed in the order of the features. The
+// problems found while reading keep their order.
+func (l *loader) placeLate(read int) {
+	late := slices.Clone(l.errs.List[read:])
+	slices.SortStableFunc(late, func(a, b *input.Problem) int {
+		return cmp.Or(strings.Compare(a.File, b.File), compareFeature(a.Feature, b.Feature))
+	})
+	list := l.errs.List[:read:read]
+	for _, q := range late {
+		at := len(list)
+		for i := len(list) - 1; i >= 0; i-- {
+			if list[i].File == q.File {
+				at = i + 1
+				break
+			}
+		}
+		for at > 0 && list[at-1].File == q.File && list[at-1].Feature != nil && compareFeature(list[at-1].Feature, q.Feature) > 0 {
+			at--
+		}
+		list = slices.Insert(list, at, q)
+	}
+	l.errs.List = list
+}
+
+// compareFeature orders two features of one file: by table, then index or feature id; no
+// feature (a problem of the file or a table as a whole) first.
+func compareFeature(a, b *input.Feature) int {
+	switch {
+	case a == nil && b == nil:
+		return 0
+	case a == nil:
+		return -1
+	case b == nil:
+		return 1
+	}
+	return cmp.Or(strings.Compare(a.Table, b.Table), cmp.Compare(a.Index, b.Index), cmp.Compare(a.FID, b.FID))
 }
 
 // sortFeatures puts buildings, pathways and structures in one order whatever the order of the
@@ -548,7 +644,7 @@ func (f *feature) check(member any, geom orb.Geometry, gerr error, tableKind str
 	if idOK {
 		if f.id == "" {
 			if kindNeedsID(kind) {
-				f.add(PropID, problemf(ErrMissingProperty, "missing; every %s needs a unique id", kind))
+				f.add(PropID, problemf(ErrMissingProperty, "missing%s; every %s needs a unique id", f.emptyNote(PropID), kind))
 			}
 		} else if kind == KindPathway && strings.Contains(f.id, "/") {
 			f.add(PropID, problemf(ErrBadValue, `want a pathway id without "/" (span ids use it), got %q`, f.id))
@@ -576,29 +672,76 @@ func (f *feature) check(member any, geom orb.Geometry, gerr error, tableKind str
 
 func kindNeedsID(kind string) bool { return kind != KindEntrance }
 
-// readID sets f.id from the "id" property or, failing that, the Feature's own id member. It
-// reports false when the id is present but unusable (already reported).
+// readID sets f.id from the "id" property or, failing that, the Feature's own id member:
+// each a string, or a whole number taken as its decimal text (idText), as GIS exports
+// write integer ids. An empty string counts as absent, as null does (present). When both
+// are given and differ, the property is the id and a warning says so. It reports false when
+// the id is given but unusable (already reported).
 func (f *feature) readID(member any) bool {
-	if v, ok := f.props[PropID]; ok && v != nil {
-		s, isStr := v.(string)
-		if !isStr || s == "" {
-			f.add(PropID, problemf(ErrWrongType, "want a non-empty string, got %s", describe(v)))
-			return false
-		}
-		f.id = s
-		return true
-	}
-	switch m := member.(type) {
-	case nil:
-	case string:
-		f.id = m
-	case json.Number:
-		f.id = string(m)
-	default:
-		f.add(PropID, problemf(ErrWrongType, `want the Feature "id" member to be a string or number, got %s`, describe(m)))
+	prop, propErr := idText(f.props[PropID])
+	mem, memErr := idText(member)
+	if propErr != nil {
+		f.add(PropID, problemf(ErrWrongType, "want a string or a whole number, got %s", describe(f.props[PropID])))
 		return false
 	}
+	if prop != "" {
+		f.id = prop
+		if mem != "" && mem != prop {
+			f.l.idDiffers = append(f.l.idDiffers, idDiff{f.src, prop, describeID(member)})
+		}
+		return true
+	}
+	if memErr != nil {
+		f.add(PropID, problemf(ErrWrongType, `want the Feature "id" member to be a string or a whole number, got %s`, describe(member)))
+		return false
+	}
+	f.id = mem
 	return true
+}
+
+// idText is an id as given in v: a string as it is, a whole number as its decimal text
+// (1021 and 1021.0 are "1021"), "" for null, absent or an empty string; an error for any
+// other value (a fraction, a boolean, an array).
+func idText(v any) (string, error) {
+	switch t := v.(type) {
+	case nil:
+		return "", nil
+	case string:
+		return t, nil
+	case json.Number:
+		if wholeDigits(string(t)) {
+			return string(t), nil
+		}
+		x, err := strconv.ParseFloat(string(t), 64)
+		// 2^53: beyond it a float64 holds no longer every whole number, so 1e300 is no id.
+		if err == nil && x == math.Trunc(x) && math.Abs(x) <= 1<<53 {
+			return strconv.FormatFloat(x, 'f', -1, 64), nil
+		}
+	}
+	return "", problemf(ErrWrongType, "not an id")
+}
+
+// wholeDigits reports whether s is an integer as JSON writes one: an optional minus, then
+// digits.
+func wholeDigits(s string) bool {
+	s = strings.TrimPrefix(s, "-")
+	if s == "" {
+		return false
+	}
+	for _, r := range s {
+		if r < '0' || r > '9' {
+			return false
+		}
+	}
+	return true
+}
+
+// describeID prints an id member for a message: a string quoted, a number as written.
+func describeID(v any) string {
+	if s, ok := v.(string); ok {
+		return strconv.Quote(s)
+	}
+	return describe(v)
 }
 
 func (f *feature) building(g orb.Geometry, ok bool) {
@@ -778,20 +921,43 @@ func (f *feature) structure(g orb.Geometry, ok bool) {
 
 func (f *feature) entrance(g orb.Geometry, ok bool) {
 	p := f.point(g, ok, KindEntrance)
-	if f.props[PropBuilding] == nil {
-		f.add(PropBuilding, problemf(ErrMissingProperty, "missing; an entrance names the id of its building"))
-	}
-	b, has := f.str(PropBuilding)
-	if has && b == "" {
-		f.add(PropBuilding, problemf(ErrBadValue, "want the id of a building, got an empty string"))
+	// The building is named by its id, a string or a whole number as the id itself (idText).
+	b, err := idText(f.props[PropBuilding])
+	switch {
+	case err != nil:
+		f.add(PropBuilding, problemf(ErrWrongType, "want the id of a building (a string or a whole number), got %s", describe(f.props[PropBuilding])))
+	case b == "":
+		f.add(PropBuilding, problemf(ErrMissingProperty, "missing%s; an entrance names the id of its building", f.emptyNote(PropBuilding)))
 	}
 	f.l.c.Entrances = append(f.l.c.Entrances, Entrance{Source: f.src, ID: f.id, Building: b, Point: p})
 }
 
-// str returns a string property and whether it is present; a non-string is reported.
+// given returns property key's value and whether it is given: a property that is absent,
+// null or the empty string is not. A shapefile's text field cannot be NULL, so exports from
+// one write "" for every empty attribute; "" is taken as absent wherever absent has a
+// meaning (the default), and a property that is required says "missing" of it (emptyNote).
+func (f *feature) given(key string) (any, bool) {
+	v := f.props[key]
+	if v == nil || v == "" {
+		return nil, false
+	}
+	return v, true
+}
+
+// emptyNote is " (an empty string counts as missing)" when property key is "", for the
+// message of a required property; "" otherwise.
+func (f *feature) emptyNote(key string) string {
+	if f.props[key] == "" {
+		return " (an empty string counts as missing)"
+	}
+	return ""
+}
+
+// str returns a string property and whether it is given (not absent, null or "", given); a
+// non-string is reported.
 func (f *feature) str(key string) (string, bool) {
-	v, ok := f.props[key]
-	if !ok || v == nil {
+	v, ok := f.given(key)
+	if !ok {
 		return "", false
 	}
 	s, isStr := v.(string)
@@ -802,10 +968,11 @@ func (f *feature) str(key string) (string, bool) {
 	return s, true
 }
 
-// enum returns a property that must be one of allowed, or def when absent or bad.
+// enum returns a property that must be one of allowed, or def when not given (given) or
+// bad.
 func (f *feature) enum(key string, allowed []string, def string) (string, bool) {
-	v, ok := f.props[key]
-	if !ok || v == nil {
+	v, ok := f.given(key)
+	if !ok {
 		return def, false
 	}
 	s, isStr := v.(string)
@@ -831,41 +998,136 @@ func badEnum(allowed []string, got any) error {
 }
 
 // enumHint is "; did you mean X?" for a value that is an allowed one in other letter case
-// (values are matched exactly: "Structure" is not "structure"), or near one by
-// input.DidYouMean; "" otherwise.
+// (values are matched exactly: "Structure" is not "structure"), a word of the trade for one
+// (tradeWords: "manhole" is a "maintenance-hole"), or near one of these by
+// input.DidYouMean, so that a misspelt trade word is answered with its meaning and not with
+// the value it looks like ("manhol" is not a "handhole"); "; X" for a word that names no
+// one value (notOneValue); "" otherwise. It never maps a value silently: the value is refused.
 func enumHint(allowed []string, got string) string {
 	for _, a := range allowed {
 		if strings.EqualFold(a, got) {
 			return fmt.Sprintf("; did you mean %q? (letter case matters)", a)
 		}
 	}
-	known := make(map[string]bool, len(allowed))
+	word := tradeWord(got)
+	if n, ok := notOneValue[word]; ok && containsAll(allowed, n.among) {
+		return "; " + n.why
+	}
+	meaning := make(map[string]string, len(allowed)+len(tradeWords))
 	for _, a := range allowed {
-		known[a] = true
+		meaning[a] = a
 	}
-	if near := input.Nearest(got, known); near != "" {
+	for w, v := range tradeWords {
+		if contains(allowed, v) {
+			meaning[w] = v
+		}
+	}
+	near, ok := word, false
+	if _, ok = meaning[word]; !ok {
+		near = input.Nearest(word, meaning)
+		ok = near != ""
+	}
+	switch {
+	case !ok:
+		return ""
+	case meaning[near] == near:
 		return fmt.Sprintf("; did you mean %q?", near)
+	case near == word:
+		return fmt.Sprintf("; did you mean %q? (%q is the trade's other word for it)", meaning[near], got)
+	default:
+		return fmt.Sprintf("; did you mean %q? (%q is the trade's other word for it)", meaning[near], near)
 	}
-	return ""
 }
 
-// flag returns a boolean property, or false when absent or bad.
+// tradeWord is a value as tradeWords spells its keys: lower case, words joined by "-".
+func tradeWord(s string) string {
+	return strings.Join(strings.FieldsFunc(strings.ToLower(s), func(r rune) bool {
+		return r == ' ' || r == '_' || r == '-' || r == '\t'
+	}), "-")
+}
+
+// tradeWords maps words of the trade (written as tradeWord writes them: "direct buried" is
+// "direct-buried") to the value of a property that means the same thing, for enumHint's hint
+// only; a misspelling of one ("pullbox", "man-hole") is found by its edit distance. A word
+// that could mean two values is in notOneValue instead. Maintenance hole is the term of ANSI/TIA-758 and
+// BICSI for what NFPA 70 (Article 110, Part V) and most drawings call a manhole (from
+// memory); the rest are everyday site words (common practice, no published source).
+var tradeWords = map[string]string{
+	"manhole": StructureMaintenanceHole, "mh": StructureMaintenanceHole,
+	"hh": StructureHandhole,
+
+	"conduit": TypeDuct, "ductbank": TypeDuct, "duct-bank": TypeDuct, "underground-conduit": TypeDuct,
+	"overhead": TypeAerial, "pole-line": TypeAerial, "aerial-cable": TypeAerial,
+	"direct-buried": TypeBuried, "direct-burial": TypeBuried, "directly-buried": TypeBuried,
+	"utility-tunnel": TypeTunnel, "service-tunnel": TypeTunnel,
+	"cable-tray": TypeTray,
+
+	"planned": StatusProposed, "new": StatusProposed, "future": StatusProposed,
+	"in-service": StatusExisting, "active": StatusExisting, "as-built": StatusExisting,
+
+	"main-cross-connect": RoleMC, "intermediate-cross-connect": RoleIC,
+
+	"grass": SurfaceTurf, "lawn": SurfaceTurf,
+	"blacktop": SurfaceAsphalt, "tarmac": SurfaceAsphalt,
+
+	"hdd": MethodBore, "directional-bore": MethodBore, "directional-drilling": MethodBore, "boring": MethodBore,
+	"open-cut": MethodTrench, "open-trench": MethodTrench, "trenching": MethodTrench,
+}
+
+// notOneValue holds the trade words that name no one value of a property among the values
+// listed: the hint says what to choose instead (common practice, no published source).
+var notOneValue = map[string]struct {
+	among []string
+	why   string
+}{
+	"vault":     {[]string{StructureMaintenanceHole, StructureHandhole}, `a vault large enough for a person to enter is a "maintenance-hole", a smaller one a "handhole"`},
+	"abandoned": {[]string{StatusExisting, StatusProposed}, "a pathway that can carry no cable is left out of the campus"},
+	"retired":   {[]string{StatusExisting, StatusProposed}, "a pathway that can carry no cable is left out of the campus"},
+	"paved":     {[]string{SurfaceAsphalt, SurfaceConcrete}, `say which paving: "asphalt" or "concrete"`},
+	"paving":    {[]string{SurfaceAsphalt, SurfaceConcrete}, `say which paving: "asphalt" or "concrete"`},
+}
+
+func containsAll(list, of []string) bool {
+	for _, s := range of {
+		if !contains(list, s) {
+			return false
+		}
+	}
+	return true
+}
+
+// flag returns a boolean property, or false when not given (given) or bad. The numbers 1
+// and 0 are true and false in every source, as a GeoPackage's BOOLEAN column stores them
+// (OGC GeoPackage 1.3, Table 1) and shapefile-born exports write them; text ("true", "Y",
+// "T") is refused, with a hint, as a number in quotes is.
 func (f *feature) flag(key string) bool {
-	v, ok := f.props[key]
-	if !ok || v == nil {
+	v, ok := f.given(key)
+	if !ok {
 		return false
 	}
-	b, isBool := v.(bool)
-	if !isBool {
-		f.add(key, problemf(ErrWrongType, "want true or false, got %s", describe(v)))
+	switch t := v.(type) {
+	case bool:
+		return t
+	case json.Number:
+		if x, err := strconv.ParseFloat(string(t), 64); err == nil && (x == 0 || x == 1) {
+			return x == 1
+		}
 	}
-	return b
+	hint := ""
+	if t, isStr := v.(string); isStr {
+		switch strings.ToLower(strings.TrimSpace(t)) {
+		case "true", "false", "t", "f", "y", "n", "yes", "no", "1", "0":
+			hint = "; write true or false without quotes"
+		}
+	}
+	f.add(key, problemf(ErrWrongType, "want true or false (or 1 or 0), got %s%s", describe(v), hint))
+	return false
 }
 
-// num returns a number property in r, or def when absent or bad.
+// num returns a number property in r, or def when not given (given) or bad.
 func (f *feature) num(key string, def float64, r input.Range) float64 {
-	v, ok := f.props[key]
-	if !ok || v == nil {
+	v, ok := f.given(key)
+	if !ok {
 		return def
 	}
 	n, isNum := v.(json.Number)
@@ -926,6 +1188,9 @@ func describe(v any) string {
 	case bool:
 		return strconv.FormatBool(t)
 	case []any:
+		if len(t) == 0 {
+			return "an empty array"
+		}
 		return "an array"
 	case map[string]any:
 		return "an object"
@@ -1135,11 +1400,25 @@ func closedRing(pts []orb.Point, what string) (orb.Ring, error) {
 	if len(pts) < 4 {
 		return nil, problemf(ErrBadGeometry, "%swant a closed ring of at least 4 positions, got %d", what, len(pts))
 	}
-	if pts[0] != pts[len(pts)-1] {
-		return nil, problemf(ErrBadGeometry, "%snot closed: first position [%s, %s], last [%s, %s]", what,
-			fmtCoord(pts[0][0]), fmtCoord(pts[0][1]), fmtCoord(pts[len(pts)-1][0]), fmtCoord(pts[len(pts)-1][1]))
+	if a, b := pts[0], pts[len(pts)-1]; a != b {
+		digits := 10
+		if fmtCoord(a[0]) == fmtCoord(b[0]) && fmtCoord(a[1]) == fmtCoord(b[1]) {
+			digits = -1 // as many as tell them apart
+		}
+		c := func(x float64) string { return strconv.FormatFloat(x, 'g', digits, 64) }
+		return nil, problemf(ErrBadGeometry, "%snot closed: first position [%s, %s], last [%s, %s], %s apart; end the ring at its first position",
+			what, c(a[0]), c(a[1]), c(b[0]), c(b[1]), gapText(DistanceM(a, b)))
 	}
 	return orb.Ring(pts), nil
+}
+
+// gapText prints a small distance in metres for a message: in millimetres, to two
+// significant digits, below a metre, so that a gap a reprojection left is seen as one.
+func gapText(m float64) string {
+	if m < 1 {
+		return strconv.FormatFloat(m*1000, 'g', 2, 64) + " mm"
+	}
+	return strconv.FormatFloat(m, 'f', 1, 64) + " m"
 }
 
 func multiLine(v any) (orb.MultiLineString, error) {

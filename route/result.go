@@ -166,7 +166,7 @@ func SolveFrom(ctx context.Context, s *site.Site, p *plan.Plan, eng *media.Engin
 	if start != nil && rt.StartSame {
 		pr.notes = append(pr.notes, fmt.Sprintf("started from the routes of %s, a plan of this same routing problem (every route cost, rule and reach the optimizer sees is the same): this plan is that problem's own plan from scratch, as that one was, not a search from its routes", start.From))
 	} else if start != nil {
-		pr.notes = append(pr.notes, startNote(start, links, rt.StartUnused)...)
+		pr.notes = append(pr.notes, startNote(start, hub, links, rt.StartUnused)...)
 	}
 	r := &Result{Plan: p, Site: s, Hub: hub, Links: links, Legs: rt.Legs, Currency: eng.PriceBook().Currency, Engine: eng,
 		Opened: rt.Opened, Handholes: rt.Handholes, Fill: rt.Fill, ObjectiveCents: rt.ObjectiveCents, LowerBoundCents: rt.LowerBoundCents, Notes: pr.notes}
@@ -176,6 +176,9 @@ func SolveFrom(ctx context.Context, s *site.Site, p *plan.Plan, eng *media.Engin
 	r.ProblemSHA256 = rt.ProblemSHA256
 	for _, w := range s.Net.Warnings {
 		r.Warnings = append(r.Warnings, w.File+": "+w.Feature+": "+w.Message)
+	}
+	if pr.warning != "" {
+		r.Warnings = append(r.Warnings, pr.warning)
 	}
 	r.cutOff(s.UnreachableServed(hub, links))
 	e, err := estimate.Build(ctx, estimate.Input{Site: s, Plan: p, Engine: eng, Legs: r.Legs, Fill: r.Fill, Opened: r.Opened, Handholes: r.Handholes,
@@ -204,8 +207,13 @@ func Check(s *site.Site, p *plan.Plan, eng *media.Engine) error {
 // buildings reached only through another, those its links meet (Site.ThroughFor: one
 // served from an ic it reaches directly is fine); with allow_new_trench false, the buildings
 // reached only over proposed pathways; and the diverse links that can have no second route
-// (NoDiverse). It returns the problems plan would reject p for (Check), with or without a hub.
+// (NoDiverse); and the warning plan gives when its hub overrides the campus's mc
+// (site.HubOverride). It returns the problems plan would reject p for (Check), with or
+// without a hub.
 func CheckPlan(s *site.Site, p *plan.Plan, rep *site.CheckReport) error {
+	if w := s.HubOverride(p); w != "" && rep.Hub == p.Hub {
+		rep.Warnings = append(rep.Warnings, w)
+	}
 	if rep.Hub != "" && len(rep.ThroughOnly) > 0 {
 		if links, _, errs := s.Links(p, rep.Hub); len(errs) == 0 {
 			s.ThroughFor(rep, links) // bad links are Check's to report
@@ -256,6 +264,9 @@ type prepared struct {
 	links []site.Link
 	notes []string // what was dropped of the plan's entries, and why
 	model *routing.Model
+	// warning is the plan's own warning, given beside the campus's: its hub overrides the
+	// campus's mc (site.HubOverride); "" for none.
+	warning string
 }
 
 // prepare resolves the plan's hub and links on the site and builds its cost model; every
@@ -285,7 +296,7 @@ func prepare(s *site.Site, p *plan.Plan, eng *media.Engine) (prepared, error) {
 		l.Sort()
 		return prepared{}, l.Err()
 	}
-	return prepared{hub: hub, links: links, notes: notes, model: model}, nil
+	return prepared{hub: hub, links: links, notes: notes, model: model, warning: s.HubOverride(p)}, nil
 }
 
 // Design is the plan's design, or the defaults for a result with no plan.
@@ -332,14 +343,23 @@ const startNoteLinks = 10
 
 // startNote is the note on the links whose start routes were placed afresh (none when every
 // route fitted), or, when the start has a route for none of the plan's links (another
-// campus's or another plan's folder), the note that it was no start at all.
-func startNote(start *routing.Start, links []site.Link, unused []string) []string {
+// campus's or another plan's folder, or a plan from another hub, as a sweep that varies the
+// hub starts from), the note that it was no start at all and why.
+func startNote(start *routing.Start, hub string, links []site.Link, unused []string) []string {
 	in := map[string]bool{}
 	for _, l := range start.Legs {
 		in[l.Link] = true
 	}
 	if !slices.ContainsFunc(links, func(l site.Link) bool { return in[l.ID] }) && len(links) > 0 {
-		return []string{fmt.Sprintf("started from the routes of %s, which has a route for none of this plan's links (its links differ from this plan's: another hub, plan or campus?): every link was placed afresh", start.From)}
+		// A link's ID starts with its cross-connect end (site.Link.ID): when none of the
+		// start's starts with one of this plan's, the start was planned from another hub.
+		sameEnd := slices.ContainsFunc(start.Legs, func(sl routing.StartLeg) bool {
+			return slices.ContainsFunc(links, func(l site.Link) bool { return strings.HasPrefix(sl.Link, l.From+"-") })
+		})
+		if !sameEnd && len(start.Legs) > 0 {
+			return []string{fmt.Sprintf("started from the routes of %s, whose links leave another cross-connect than this plan's (hub %s): it has a route for none of this plan's links, and every link was placed afresh", start.From, hub)}
+		}
+		return []string{fmt.Sprintf("started from the routes of %s, which has a route for none of this plan's links (its links differ from this plan's: another plan or campus?): every link was placed afresh", start.From)}
 	}
 	if len(unused) == 0 {
 		return nil

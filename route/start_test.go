@@ -20,14 +20,25 @@ func TestStartFromAnotherPlan(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	start := &routing.Start{From: "elsewhere", Legs: []routing.StartLeg{{Link: "HUB-NOWHERE", Leg: routing.LegPrimary, Medium: "os2", Spans: []string{"P-1"}}}}
+	start := &routing.Start{From: "elsewhere", Legs: []routing.StartLeg{{Link: "ADM-NOWHERE", Leg: routing.LegPrimary, Medium: "os2", Spans: []string{"P-1"}}}}
 	r, err := route.SolveFrom(context.Background(), s, p, eng, start)
 	if err != nil {
 		t.Fatal(err)
 	}
 	if !slices.ContainsFunc(r.Notes, func(n string) bool {
-		return strings.Contains(n, "elsewhere, which has a route for none of this plan's")
+		return strings.Contains(n, "elsewhere, which has a route for none of this plan's links (its links differ from this plan's: another plan or campus?)")
 	}) {
 		t.Errorf("notes %q: want one saying the start has a route for none of the links", r.Notes)
+	}
+	// A start planned from another hub (a sweep that varies the hub starts its scenarios
+	// from the first): the note says so, rather than asking whether it was another hub.
+	start.Legs[0].Link = "HUB-NOWHERE"
+	r, err = route.SolveFrom(context.Background(), s, p, eng, start)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := "started from the routes of elsewhere, whose links leave another cross-connect than this plan's (hub ADM): it has a route for none of this plan's links, and every link was placed afresh"
+	if !slices.Contains(r.Notes, want) {
+		t.Errorf("notes %q: want %q", r.Notes, want)
 	}
 }

@@ -250,3 +250,58 @@ func TestCheckBrokenGeoPackage(t *testing.T) {
 		}
 	}
 }
+
+// TestShapefileHabits plans the demo campus as an export from a shapefile writes it: every
+// optional text or number property it leaves out given as "" (a dBASE table has no NULL:
+// ESRI Shapefile Technical Description, 1998, from memory) and true as 1 (a logical field
+// exported as an integer, as a GeoPackage stores a BOOLEAN: OGC GeoPackage 1.3, Table 1). "" is
+// absent and 1 is true, so every output equals the demo's, byte for byte.
+func TestShapefileHabits(t *testing.T) {
+	t.Parallel()
+	dir := demoFolder(t)
+	data, err := os.ReadFile(filepath.Join(dir, "campus.geojson"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var fc struct {
+		Type     string           `json:"type"`
+		Features []map[string]any `json:"features"`
+	}
+	if err := json.Unmarshal(data, &fc); err != nil {
+		t.Fatal(err)
+	}
+	optional := map[string][]string{
+		"building": {"name", "role", "riser_m", "transit"},
+		"pathway":  {"type", "status", "spare_ducts", "duct_mm", "emi", "surface", "method", "plenum", "group"},
+		"entrance": {"id"},
+	}
+	blanks := 0
+	for _, f := range fc.Features {
+		props := f["properties"].(map[string]any)
+		for _, k := range optional[props["kind"].(string)] {
+			switch v, ok := props[k]; {
+			case !ok:
+				props[k] = ""
+				blanks++
+			case v == true:
+				props[k] = 1
+			case v == false:
+				props[k] = 0
+			}
+		}
+	}
+	if blanks < 100 {
+		t.Fatalf("only %d properties left out to blank: the demo campus changed?", blanks)
+	}
+	habits, err := json.Marshal(fc)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(filepath.Join(dir, "habits.geojson"), habits, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	demoPlan := filepath.Join(dir, "plan.yaml")
+	habitsPlan := withCampus(t, dir, "plan-habits.yaml", "campus: [habits.geojson]")
+	// The warnings name their file: campus.geojson against habits.geojson, the one difference.
+	sameOutputs(t, planFiles(t, demoPlan), planFiles(t, habitsPlan), sourceNames(t, demoPlan, ""), sourceNames(t, habitsPlan, ""))
+}

@@ -344,13 +344,13 @@ func TestBrokenGeoPackage(t *testing.T) {
 	want := []string{
 		p + `table buildings fid 2 (id "B-2"): property "role": want one of "mc", "ic", got string "hub"`,
 		p + `table buildings fid 2 (id "B-2"): property "riser_m": want metres from 0 to 1000, got -3`,
-		p + `table buildings fid 2 (id "B-2"): property "transit": want true or false, got 2`,
+		p + `table buildings fid 2 (id "B-2"): property "transit": want true or false (or 1 or 0), got 2`,
 		p + `table buildings fid 3 (id "B-3"): geometry: want Polygon or MultiPolygon for a building, got LineString`,
 		p + `table buildings fid 3 (id "B-3"): property "riser_m": want metres from 0 to 1000, got string "tall"`,
 		p + `table buildings fid 4 (no id): property "id": missing; every building needs a unique id`,
 		p + `table entrances fid 1 (id "E-1"): property "building": want the id of a building, got "B-9", which no feature has`,
 		p + `table local: srs_id 990001 (Local grid): unusable coordinate reference system: LOCAL:1 is not an EPSG system; assign or transform it to one (EPSG:4326 for longitude/latitude)`,
-		p + `table pathways fid 7 (id "P-1"): property "type": want one of "duct", "tunnel", "aerial", "buried", "tray", got string "conduit"`,
+		p + `table pathways fid 7 (id "P-1"): property "type": want one of "duct", "tunnel", "aerial", "buried", "tray", got string "conduit"; did you mean "duct"? ("conduit" is the trade's other word for it)`,
 		p + `table pathways fid 8 (id "B-1"): property "id": duplicate id "B-1": first used by ` + path + ` table buildings fid 1`,
 		p + `table pathways fid 8 (id "B-1"): property "spare_ducts": want an integer from 0 to 1000000, got 1.5`,
 		p + `table pathways fid 8 (id "B-1"): property "duct_mm": want millimetres above 0 and at most 1000, got 0`,
@@ -360,7 +360,7 @@ func TestBrokenGeoPackage(t *testing.T) {
 		p + `table pathways fid 12 (id "P-6"): geometry: srs_id 3857 in the geometry's header, but the table's column is in srs_id 4326`,
 		p + `table pathways fid 13 (id "P-7"): geometry: missing (null or absent)`,
 		p + `table site fid 1 (id "T-1"): property "kind": want one of "building", "pathway", "structure", "entrance", got string "tree"`,
-		p + `table site fid 2 (id "MH-1"): property "type": want one of "maintenance-hole", "handhole", "pull-box", got string "vault"`,
+		p + `table site fid 2 (id "MH-1"): property "type": want one of "maintenance-hole", "handhole", "pull-box", got string "vault"; a vault large enough for a person to enter is a "maintenance-hole", a smaller one a "handhole"`,
 	}
 	if len(got) != len(want) {
 		t.Errorf("got %d problems, want %d:\n%s", len(got), len(want), ps.Error())

@@ -116,7 +116,7 @@ func TestPostGIS(t *testing.T) {
 			name + `table buildings fid 2 (id "B-2"): property "riser_m": want metres from 0 to 1000, got 10000`,
 			name + `table local: SRID 990001: unusable coordinate reference system: LOCAL:1 is not an EPSG system; assign or transform it to one (EPSG:4326 for longitude/latitude)`,
 			name + `table nokey: want a primary key of one integer column (the feature id, as ogr2ogr's ogc_fid), got none`,
-			name + `table pathways fid 5 (id "P-1"): property "type": want one of "duct", "tunnel", "aerial", "buried", "tray", got string "conduit"`,
+			name + `table pathways fid 5 (id "P-1"): property "type": want one of "duct", "tunnel", "aerial", "buried", "tray", got string "conduit"; did you mean "duct"? ("conduit" is the trade's other word for it)`,
 			name + `table pathways fid 6 (id "P-2"): geometry: want a line of at least two distinct positions, got 2 position(s), 1 distinct`,
 			name + `table pathways fid 6 (id "P-2"): property "duct_mm": want millimetres above 0 and at most 1000, got 0`,
 		}

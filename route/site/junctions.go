@@ -1,6 +1,8 @@
 package site
 
 import (
+	"fmt"
+
 	"spanwright/geo"
 	"spanwright/geo/input"
 	"spanwright/route/plan"
@@ -53,6 +55,19 @@ func (s *Site) Hub(p *plan.Plan) (string, error) {
 		return "", p.Problem("hub", input.Errorf(input.ErrBadValue, "want the id of a building, got %q, which no building has", hub))
 	}
 	return hub, nil
+}
+
+// HubOverride is the warning when the plan's hub (p.Hub) is not the campus's building with
+// role mc: two sources name the main cross-connect, and the plan's wins, so the mc building
+// is planned as a served building (or as whatever the plan's links make it). "" when they
+// agree, or when either names none.
+func (s *Site) HubOverride(p *plan.Plan) string {
+	mc := s.MainCrossConnect()
+	if p == nil || p.Hub == "" || mc == "" || mc == p.Hub {
+		return ""
+	}
+	return fmt.Sprintf("the plan's hub %s replaces %s, the campus's building with role mc: %s is planned as any other building (drop its role mc, or the plan's hub, to say one main cross-connect)",
+		p.Hub, mc, mc)
 }
 
 // UnreachableServed lists the buildings at either end of a link that cannot reach the hub.
