@@ -83,6 +83,7 @@ type sweepView struct {
 	Infeasible int
 	Failed     int
 	Pareto     int
+	Incomplete int // ok scenarios not ranked: their totals leave out items not priced (sweep.Row.Incomplete)
 	Currency   string
 	Cols       []sweepCol
 	Rows       []sweepRow
@@ -141,6 +142,9 @@ func sweepViewOf(c *sweep.Comparison, opt SweepOptions) *sweepView {
 		switch j.Status {
 		case sweep.StatusOK:
 			v.OK++
+			if j.Incomplete() {
+				v.Incomplete++
+			}
 			if j.Rank == 1 && cheapest == nil {
 				cheapest = j
 			}
@@ -222,13 +226,7 @@ func sweepRowOf(j *sweep.Judged, keys []string) sweepRow {
 	if j.DiverseSinglePoint != nil {
 		spof = intc(*j.DiverseSinglePoint, planned)
 	}
-	pareto := sweepCell{}
-	if j.Status == sweep.StatusOK {
-		pareto = text("no")
-		if j.Pareto {
-			pareto = text("yes")
-		}
-	}
+	pareto := text(sweep.ParetoText(&j.Row, j.Pareto))
 	row.Cells = append(row.Cells, text(j.Status), moneyc(j.TotalCents, planned), budget,
 		over, intc(j.InfeasibleLegs, planned), margin, trench,
 		intc(j.DiverseLinks, planned), spof, intc(j.DiverseMissing, planned), text(j.MediaMix),
@@ -316,6 +314,9 @@ func scatterOf(c *sweep.Comparison) scatter {
 		switch {
 		case j.Status == sweep.StatusInfeasible:
 			p.Class = "pt pt-infeasible"
+		case j.Incomplete():
+			p.Class = "pt pt-incomplete"
+			p.Title += ", not ranked: its total leaves out items not priced"
 		case j.Pareto:
 			p.Class = "pt pt-pareto"
 			p.Label = "#" + strconv.Itoa(j.Index)

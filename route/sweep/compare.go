@@ -30,18 +30,19 @@ type judged struct {
 	pareto bool // not dominated; only ok scenarios are judged
 }
 
-// judge ranks the ok rows by total cost (equal costs share a rank, the next rank skips:
-// 1, 2, 2, 4) and flags those no other ok row dominates on (total cost lower is better,
-// worst loss margin higher is better, links missing a diverse route fewer is better). A
-// scenario without fibre legs has no loss margin to lose and counts as the best margin.
-// Infeasible and failed scenarios get neither a rank nor a flag: their costs leave out the
-// links they could not serve.
+// judge ranks the complete ok rows by total cost (equal costs share a rank, the next rank
+// skips: 1, 2, 2, 4) and flags those no other complete ok row dominates on (total cost lower
+// is better, worst loss margin higher is better, links missing a diverse route fewer is
+// better). A scenario without fibre legs has no loss margin to lose and counts as the best
+// margin. Infeasible and failed scenarios get neither a rank nor a flag: their costs leave out
+// the links they could not serve; nor do incomplete ones (Row.Incomplete), whose totals leave
+// out what their books do not price (ParetoText says so).
 func judge(rows []Row) []judged {
 	out := make([]judged, len(rows))
 	var ok []int
 	for i := range rows {
 		out[i].Row = &rows[i]
-		if rows[i].Status == StatusOK {
+		if rows[i].Status == StatusOK && !rows[i].Incomplete() {
 			ok = append(ok, i)
 		}
 	}
@@ -107,6 +108,21 @@ func judge(rows []Row) []judged {
 		g = h
 	}
 	return out
+}
+
+// ParetoText is a row's pareto cell: "yes" or "no" for a ranked scenario, "no (incomplete)"
+// for an ok one whose total leaves out items its book does not price (Row.Incomplete), ""
+// for an infeasible or failed one. compare.csv, compare.md and the sweep report all use it.
+func ParetoText(r *Row, pareto bool) string {
+	switch {
+	case r.Status != StatusOK:
+		return ""
+	case r.Incomplete():
+		return "no (incomplete)"
+	case pareto:
+		return "yes"
+	}
+	return "no"
 }
 
 func same(rows []Row, a, b int, margin func(int) float64) bool {
@@ -249,18 +265,13 @@ var fixedColumns = []column{
 			return workbook.Int(int64(j.rank))
 		}, nil},
 	{"pareto", "pareto optimal", "",
-		func(j judged) string {
+		func(j judged) string { return ParetoText(j.Row, j.pareto) },
+		func(j judged) workbook.Cell {
 			switch {
 			case j.Status != StatusOK:
-				return ""
-			case j.pareto:
-				return "yes"
-			}
-			return "no"
-		},
-		func(j judged) workbook.Cell {
-			if j.Status != StatusOK {
 				return workbook.Blank()
+			case j.Incomplete():
+				return workbook.Text(ParetoText(j.Row, j.pareto))
 			}
 			return workbook.Bool(j.pareto)
 		}, nil},
@@ -493,7 +504,8 @@ func textOrBlank(s string) workbook.Cell {
 }
 
 // tally counts the scenarios by status: ok, with infeasible legs, failed (any other).
-type tally struct{ ok, infeasible, failed int }
+// Of the ok ones, incomplete counts those whose totals leave out items not priced.
+type tally struct{ ok, infeasible, failed, incomplete int }
 
 func tallyOf(js []judged) tally {
 	var n tally
@@ -501,6 +513,9 @@ func tallyOf(js []judged) tally {
 		switch j.Status {
 		case StatusOK:
 			n.ok++
+			if j.Incomplete() {
+				n.incomplete++
+			}
 		case StatusInfeasible:
 			n.infeasible++
 		default:
@@ -524,8 +539,16 @@ func compareMD(js []judged, keys []string, cur string) []byte {
 	if cur != "" {
 		fmt.Fprintf(&b, " Money in %s.", escape.Markdown(cur))
 	}
-	fmt.Fprintf(&b, "\nRank and Pareto flag consider only ok scenarios (every leg feasible); Pareto over total cost,\n")
-	fmt.Fprintf(&b, "worst loss margin (higher is better) and links lacking a diverse route.\n\n")
+	fmt.Fprintf(&b, "\nRank and Pareto flag consider only ok scenarios (every leg feasible) whose totals price every\n")
+	fmt.Fprintf(&b, "line; Pareto over total cost, worst loss margin (higher is better) and links lacking a diverse route.\n")
+	if n.incomplete > 0 {
+		why := "its total leaves out items its price book does not price"
+		if n.incomplete > 1 {
+			why = "their totals leave out items their price books do not price"
+		}
+		fmt.Fprintf(&b, "%s not ranked: %s (pareto \"no (incomplete)\"; see the notes).\n", output.Counted(n.incomplete, "ok scenario", "ok scenarios"), why)
+	}
+	b.WriteString("\n")
 	if len(front) > 0 {
 		fmt.Fprintf(&b, "Pareto optimal: %s.\n\n", strings.Join(front, ", "))
 	}
