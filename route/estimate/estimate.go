@@ -354,7 +354,7 @@ func Build(ctx context.Context, in Input) (*Estimate, error) {
 		}
 		for k, sp := range l.Cable.Splices {
 			if sp.NoStructure {
-				e.Warnings = append(e.Warnings, fmt.Sprintf("%s %s: mid-span splice %d of %d has no maintenance hole or handhole within its reel's reach (%s); build a splice point there (a handhole, or a closure on an aerial span's strand), not billed",
+				e.Warnings = append(e.Warnings, fmt.Sprintf("%s %s: mid-span splice %d of %d has no maintenance hole or handhole within its reel's reach (%s); build a splice point there (a handhole, or a closure on an aerial span's strand): the bill's \""+SplicePointItem+"\" line, at splice_point_each",
 					l.Link.ID, l.Name, k+1, len(l.Cable.Splices), sp.Text(MetresText)))
 			}
 		}
@@ -1190,6 +1190,10 @@ func (c *Construction) assumedWarning() string {
 		c.AssumedSurface, strings.Join(what, " and "), m)
 }
 
+// SplicePointItem is the bill item of a splice point built where a mid-span splice has no
+// maintenance hole or handhole within its reel's reach (routing.SplicePoint.NoStructure).
+const SplicePointItem = "splice point to build, mid-span splice with no structure within reach"
+
 // legItems lists what one feasible leg puts on the bill of materials: its cables, entrance
 // transitions, terminations, tests, patch cords, transceivers, reel joins, and the
 // route-dependent items of its spans, ends and structure loops (package items), each for all its
@@ -1391,6 +1395,26 @@ func (r *run) quantities() {
 	}
 	e.Quantities = append(e.Quantities, media.Quantity{Category: media.CategoryConstruction, Item: "handhole for an added pull point",
 		Unit: media.UnitEach, Amount: float64(e.AddedPullPoints), Price: media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole}, From: pulled})
+	// A join no structure within its reel's reach takes needs a splice point built there
+	// (routing.SplicePoint.NoStructure), one for every cable of every leg that joins at that
+	// place: priced at splice_point_each, or listed not priced (media.PriceBook.NotPriced), so
+	// that the total and summary.json's not_priced say they are left out. Like the added pull
+	// points, not in any leg's cost.
+	places, joined := map[string]bool{}, []string(nil)
+	for i := range r.Legs {
+		l := &r.Legs[i]
+		if !l.Feasible {
+			continue
+		}
+		for _, sp := range l.Cable.Splices {
+			if sp.NoStructure {
+				places[sp.Text(MetresText)] = true
+				joined = append(joined, fromLeg(l))
+			}
+		}
+	}
+	e.Quantities = append(e.Quantities, media.Quantity{Category: media.CategoryConstruction, Item: SplicePointItem,
+		Unit: media.UnitEach, Amount: float64(len(places)), Price: media.PriceKey{Item: media.PriceSplicePoint}, From: joined})
 	if len(p.BidItems) > 0 {
 		e.Bases = r.bidBases()
 		for _, q := range p.BidQuantities(e.Bases) {
