@@ -215,7 +215,12 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 		workbook.Column{Name: "model cost", Unit: cur}, workbook.Column{Name: "feasible"}, workbook.Column{Name: "note"},
 		workbook.Column{Name: "from entrance"}, workbook.Column{Name: "to entrance"}, workbook.Column{Name: "buildings crossed"},
 		workbook.Column{Name: "turns at added handholes"}, workbook.Column{Name: "reason code"},
-		workbook.Column{Name: "jacket colour"}, workbook.Column{Name: "cable labels"})
+		workbook.Column{Name: "jacket colour"}, workbook.Column{Name: "cable labels"},
+		// The cut of each construction (links.csv's cut_length and inside_ columns): last, so
+		// that no earlier column moves.
+		workbook.Column{Name: "cut length", Unit: u.Length}, workbook.Column{Name: "inside cables"},
+		workbook.Column{Name: "inside cut at to", Unit: u.Length}, workbook.Column{Name: "inside cut at from", Unit: u.Length},
+		workbook.Column{Name: "inside labels"})
 	links.Filter = true
 	bom := wb.AddSheet("bill of materials", workbook.Column{Name: "category"}, workbook.Column{Name: "item"},
 		workbook.Column{Name: "unit"}, workbook.Column{Name: "quantity"}, workbook.Column{Name: "unit price", Unit: cur},
@@ -420,7 +425,7 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 		if !l.Feasible {
 			cells = append(cells, make([]workbook.Cell, 18)...)
 			cells = append(cells, workbook.Cents(l.Cost.TotalCents()), workbook.Bool(false), workbook.Text(InUnits(opt, l.Reason)))
-			links.Append(append(append(cells, passage(r, l)...), workbook.Blank(), workbook.Blank())...)
+			links.Append(append(append(cells, passage(r, l)...), make([]workbook.Cell, 7)...)...)
 			continue
 		}
 		hi := hiOf[i]
@@ -432,7 +437,14 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 			workbook.Int(int64(t.Joins)), workbook.Text(ReelsText(opt, t.ReelsM)), workbook.Text(SplicesText(opt, t.Splices)),
 			workbook.Int(int64(pullsOf[i])), workbook.Number(u.N(hi), 1), workbook.Number(u.N(rated), 1),
 			workbook.Cents(l.Cost.TotalCents()), workbook.Bool(true), workbook.Text(InUnits(opt, l.Reason)))
-		links.Append(append(append(cells, passage(r, l)...), workbook.Text(JacketText(r, l)), workbook.Text(strings.Join(CableLabels(r, i), " ")))...)
+		inside := []workbook.Cell{workbook.Blank(), workbook.Blank(), workbook.Blank(), workbook.Blank()}
+		if l.Inside != "" {
+			inside = []workbook.Cell{workbook.Int(int64(t.InsideCables)), workbook.Number(u.M(t.InsideToM), 1), workbook.Number(u.M(t.InsideFromM), 1),
+				workbook.Text(strings.Join(InsideLabels(r, i), " "))}
+		}
+		cells = append(append(cells, passage(r, l)...), workbook.Text(JacketText(r, l)), workbook.Text(strings.Join(CableLabels(r, i), " ")),
+			workbook.Number(u.M(t.OutsideLengthM()), 1))
+		links.Append(append(cells, inside...)...)
 	}
 	for _, p := range r.Estimate.Pulls {
 		l := &r.Legs[p.Leg]
