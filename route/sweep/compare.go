@@ -222,19 +222,7 @@ var fixedColumns = []column{
 			}
 			return workbook.Number(*j.WorstMarginDB, 2)
 		}, nil},
-	{"new_trench_m", "new trench", "m",
-		func(j judged) string {
-			if !planned(j) {
-				return ""
-			}
-			return strconv.FormatFloat(j.NewTrenchM, 'f', 1, 64)
-		},
-		func(j judged) workbook.Cell {
-			if !planned(j) {
-				return workbook.Blank()
-			}
-			return workbook.Number(j.NewTrenchM, 1)
-		}, nil},
+	trenchColumn, // replaced by the run's units (columnsIn)
 	intCol("diverse_links", "diverse links", func(r *Row) int { return r.DiverseLinks }),
 	{"diverse_single_point", "diverse links sharing a single point of failure", "",
 		func(j judged) string {
@@ -305,6 +293,42 @@ var fixedColumns = []column{
 		}},
 }
 
+// trenchColumn is the metres of new trench; columnsIn replaces it by its units' (trenchIn).
+var trenchColumn = trenchIn(output.UnitsMetric)
+
+// trenchIn is the new trench column in units (output.UnitsMetric or UnitsImperial): metres,
+// or feet under --units imperial, one decimal, converted from the row's metres (summary.json's
+// new_trench_m, to 0.1 m), so a figure in feet can be 0.1 ft off the scenario's own files.
+func trenchIn(units string) column {
+	u := output.UnitsOf(output.WriteOptions{Units: units})
+	return column{"new_trench_" + u.Length, "new trench", u.Length,
+		func(j judged) string {
+			if !planned(j) {
+				return ""
+			}
+			return strconv.FormatFloat(u.Rounded(j.NewTrenchM, 1), 'f', 1, 64)
+		},
+		func(j judged) workbook.Cell {
+			if !planned(j) {
+				return workbook.Blank()
+			}
+			return workbook.Number(u.Rounded(j.NewTrenchM, 1), 1)
+		}, nil}
+}
+
+// columnsIn is fixedColumns with the lengths in units (output.UnitsMetric or UnitsImperial),
+// as the sweep wrote its scenarios' files (rowsHeader.Units): compare.csv's new_trench_m is
+// new_trench_ft under --units imperial.
+func columnsIn(units string) []column {
+	out := slices.Clone(fixedColumns)
+	for i := range out {
+		if out[i].csv == trenchColumn.csv {
+			out[i] = trenchIn(units)
+		}
+	}
+	return out
+}
+
 // bounded reports whether the row is planned with a lower bound.
 func bounded(j judged) bool { return planned(j) && j.LowerBoundCents != nil }
 
@@ -333,7 +357,8 @@ func currencyOf(rows []Row) string {
 // column per override key (empty where the scenario keeps the base plan's value), status
 // (ok, infeasible, failed), currency, total_cost, plan_budget and over_budget (currency units
 // with two decimals; budget columns empty without a budget), infeasible_legs,
-// worst_margin_db (two decimals, empty without fibre legs), new_trench_m (one decimal),
+// worst_margin_db (two decimals, empty without fibre legs), new_trench_m (one decimal;
+// new_trench_ft under --units imperial, columnsIn),
 // diverse_links, diverse_single_point (of them, those whose two routes share a single point
 // of failure), diverse_missing, media_mix ("medium:legs" pairs), cost_rank, pareto
 // (yes/no), warnings, error, note, then objective and lower_bound (currency units, empty
@@ -342,18 +367,19 @@ func currencyOf(rows []Row) string {
 // second sheet of totals as formulas; compare.md the same as a Markdown table. Text from the
 // sweep (ids, case names, values, errors) is escaped for each file by package escape: no CSV
 // cell begins a formula, no Markdown text forms markup, hidden characters show as "<U+202E>".
-func Compare(rows []Row, keys []string) ([]fileset.OutputFile, error) {
+func Compare(rows []Row, keys []string, units string) ([]fileset.OutputFile, error) {
 	js := judge(rows)
 	cur := currencyOf(rows)
-	csvData, err := compareCSV(js, keys)
+	cols := columnsIn(units)
+	csvData, err := compareCSV(js, keys, cols)
 	if err != nil {
 		return nil, err
 	}
-	xlsx, err := compareXLSX(js, keys, cur)
+	xlsx, err := compareXLSX(js, keys, cur, cols)
 	if err != nil {
 		return nil, err
 	}
-	md := compareMD(js, keys, cur)
+	md := compareMD(js, keys, cur, cols)
 	return []fileset.OutputFile{
 		{Name: CompareCSV, Data: csvData},
 		{Name: CompareMD, Data: md},
@@ -361,11 +387,11 @@ func Compare(rows []Row, keys []string) ([]fileset.OutputFile, error) {
 	}, nil
 }
 
-func compareCSV(js []judged, keys []string) ([]byte, error) {
+func compareCSV(js []judged, keys []string, fixed []column) ([]byte, error) {
 	var b bytes.Buffer
 	w := escape.NewWriter(&b)
 	head := append([]string{"index", "id", "case"}, keys...)
-	for _, c := range fixedColumns {
+	for _, c := range fixed {
 		head = append(head, c.csv)
 	}
 	w.Write(head)
@@ -374,7 +400,7 @@ func compareCSV(js []judged, keys []string) ([]byte, error) {
 		for _, k := range keys {
 			rec = append(rec, j.value(k))
 		}
-		for _, c := range fixedColumns {
+		for _, c := range fixed {
 			rec = append(rec, c.text(j))
 		}
 		w.Write(rec)
@@ -392,14 +418,14 @@ func unitOf(c column, cur string) string {
 	return c.unit
 }
 
-func compareXLSX(js []judged, keys []string, cur string) ([]byte, error) {
+func compareXLSX(js []judged, keys []string, cur string, fixed []column) ([]byte, error) {
 	wb := workbook.New()
 	cols := []workbook.Column{{Name: "index"}, {Name: "id"}, {Name: "case"}}
 	for _, k := range keys {
 		cols = append(cols, workbook.Column{Name: k})
 	}
 	first := len(cols)
-	for _, c := range fixedColumns {
+	for _, c := range fixed {
 		cols = append(cols, workbook.Column{Name: c.human, Unit: unitOf(c, cur)})
 	}
 	sh := wb.AddSheet("scenarios", cols...)
@@ -409,13 +435,13 @@ func compareXLSX(js []judged, keys []string, cur string) ([]byte, error) {
 		for _, k := range keys {
 			cells = append(cells, axisCell(k, j.value(k)))
 		}
-		for _, c := range fixedColumns {
+		for _, c := range fixed {
 			cells = append(cells, c.cell(j))
 		}
 		sh.Append(cells...)
 	}
 	col := func(csvName string) string {
-		for i, c := range fixedColumns {
+		for i, c := range fixed {
 			if c.csv == csvName {
 				return sh.Range(first + i)
 			}
@@ -525,7 +551,7 @@ func tallyOf(js []judged) tally {
 	return n
 }
 
-func compareMD(js []judged, keys []string, cur string) []byte {
+func compareMD(js []judged, keys []string, cur string, fixed []column) []byte {
 	var b bytes.Buffer
 	var front []string
 	for _, j := range js {
@@ -561,7 +587,7 @@ func compareMD(js []judged, keys []string, cur string) []byte {
 		align = append(align, "---")
 	}
 	var cols []column
-	for _, c := range fixedColumns {
+	for _, c := range fixed {
 		if c.csv == "error" || c.csv == "currency" || c.csv == "note" {
 			continue // failures and notes are listed below the table; the currency is said above
 		}

@@ -28,7 +28,7 @@ func TestCompareWorkbookOpenpyxl(t *testing.T) {
 			Status: StatusInfeasible, Currency: "USD", TotalCents: 99999, InfeasibleLegs: 1},
 		{Index: 2, ID: "s2", Set: [][2]string{{"hub", "NOWHERE"}}, Status: StatusFailed, Error: "no building NOWHERE"},
 	}
-	files, err := Compare(rows, keys)
+	files, err := Compare(rows, keys, "")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -71,7 +71,7 @@ highest total cost of an ok scenario (USD) = float:1234.56
 
 	// Without an ok scenario the cost totals are the empty text IFERROR gives.
 	rows[0].Status = StatusFailed
-	files, err = Compare(rows, keys)
+	files, err = Compare(rows, keys, "")
 	if err != nil {
 		t.Fatal(err)
 	}

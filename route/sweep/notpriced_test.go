@@ -53,7 +53,7 @@ func TestJudgeLeavesIncompleteUnranked(t *testing.T) {
 			t.Errorf("%s: rank %d pareto %v %q, want %d %v %q", j.ID, j.rank, j.pareto, ParetoText(j.Row, j.pareto), wantRank[i], wantPareto[i], wantText[i])
 		}
 	}
-	files, err := Compare(rows, nil)
+	files, err := Compare(rows, nil, "")
 	if err != nil {
 		t.Fatal(err)
 	}

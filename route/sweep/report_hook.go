@@ -31,6 +31,9 @@ type Comparison struct {
 	Keys     []string
 	Rows     []Judged
 	Currency string // the currency every planned scenario shares; "" when they differ
+	// Units are the units the scenarios' files for people are in (output.UnitsImperial, or
+	// "" for metric): the report shows lengths in them, as compare.csv does.
+	Units string
 }
 
 // Judge ranks rows (every scenario of a sweep, in index order) and flags the Pareto-optimal
@@ -62,7 +65,9 @@ func ReadComparison(dir string) (*Comparison, error) {
 			return nil, fmt.Errorf("read comparison: %s: scenario %d missing", path, i)
 		}
 	}
-	return Judge(rows, h.Keys), nil
+	c := Judge(rows, h.Keys)
+	c.Units = h.Units
+	return c, nil
 }
 
 // CompareFunc renders more comparison files (a report) from a finished sweep's comparison;
@@ -77,5 +82,7 @@ func judgeEncoded(data []byte) (*Comparison, error) {
 	if err != nil {
 		return nil, err
 	}
-	return Judge(rows, h.Keys), nil
+	c := Judge(rows, h.Keys)
+	c.Units = h.Units
+	return c, nil
 }

@@ -153,6 +153,10 @@ type rowsHeader struct {
 	Scenarios int      `json:"scenarios"` // in the whole sweep
 	Keys      []string `json:"keys"`      // override keys, the comparison's columns
 	Shard     string   `json:"shard,omitempty"`
+	// Units are the units the scenarios' files for people are in, output.UnitsImperial or ""
+	// for metric (absent, so a metric rows file reads as before): the comparison's lengths
+	// follow them (columnsIn).
+	Units string `json:"units,omitempty"`
 }
 
 func sweepHash(f *File) string {

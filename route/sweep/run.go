@@ -205,6 +205,9 @@ func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
 		return nil, err
 	}
 	h := rowsHeader{Format: RowsFormat, Sweep: sweepHash(f), Scenarios: len(f.Scenarios()), Keys: f.Keys(), Shard: opt.Shard.String()}
+	if opt.Write.Units == output.UnitsImperial {
+		h.Units = output.UnitsImperial
+	}
 	// Refuse before planning anything when the comparison would replace the sweep file or
 	// the base plan (the files the scenarios read are checked again when it is written).
 	names, err := renderRun(h, nil, opt.Shard, opt.Compare, nil)
@@ -271,7 +274,7 @@ func renderRun(h rowsHeader, rows []Row, sh Shard, more CompareFunc, dirs []stri
 	if !sh.Whole() {
 		return []fileset.OutputFile{{Name: shardRowsFile(sh), Data: data}}, nil
 	}
-	files, err := Compare(rows, h.Keys)
+	files, err := Compare(rows, h.Keys, h.Units)
 	if err != nil {
 		return nil, err
 	}
