@@ -10,6 +10,7 @@ import (
 
 	"spanwright/media"
 	"spanwright/route/internal/testplan"
+	"spanwright/route/internal/testsite"
 )
 
 // TestScheduleColumns holds links.csv's cable schedule to the workbook's links sheet (the
@@ -149,5 +150,41 @@ func TestSchedulePiecesAddUpToBill(t *testing.T) {
 		if _, ok := billed[k]; !ok && m > 0 {
 			t.Errorf("%s: the schedule cuts %.1f m the bill does not buy", k, m)
 		}
+	}
+}
+
+// TestOutsideReels plans the demo with reels of 400 m, where legs of outside-plant cable
+// spliced to riser cable at the entrances also take mid-span joins: the reel lengths of the
+// links sheet are of the outside cable alone and add up to its cut length (links.csv's
+// cut_length_m), not to the cable bought, whose inside pieces are cut from other reels.
+func TestOutsideReels(t *testing.T) {
+	t.Parallel()
+	s, p := testsite.Demo(t)
+	q := *p
+	q.Design.ReelM = 400
+	r := testplan.SolvePlan(t, s, &q)
+	both := 0
+	for i := range r.Legs {
+		l := &r.Legs[i]
+		if !l.Feasible {
+			continue
+		}
+		reels := OutsideReelsM(l.Cable)
+		sum := 0.0
+		for _, m := range reels {
+			sum += m
+			if m <= 0 {
+				t.Errorf("%s: reel of %.0f m", l.Label(), m)
+			}
+		}
+		if sum != l.Cable.OutsideLengthM() || len(reels) != l.Cable.Reels {
+			t.Errorf("%s: reels %v sum to %.0f m, cut length %.0f m, %d reels", l.Label(), reels, sum, l.Cable.OutsideLengthM(), l.Cable.Reels)
+		}
+		if l.Inside != "" && l.Cable.Joins > 0 {
+			both++
+		}
+	}
+	if both == 0 {
+		t.Fatal("no leg with an entrance transition and mid-span joins: nothing to test")
 	}
 }
