@@ -475,12 +475,13 @@ func compareXLSX(js []judged, keys []string, cur string, fixed []column) ([]byte
 	tot.Append(workbook.Text("with infeasible legs"), workbook.Formula("COUNTIF("+status+",\"infeasible\")", float64(n.infeasible), 0))
 	tot.Append(workbook.Text("failed"), workbook.Formula("COUNTIF("+status+",\"failed\")", float64(n.failed), 0))
 	tot.Append(workbook.Text("pareto optimal"), workbook.Formula("COUNTIF("+col("pareto")+",TRUE)", float64(pareto), 0))
-	// The cheapest and dearest ok scenarios are those ranked first and last; INDEX and MATCH
+	// The cheapest and dearest ranked scenarios (ok, every line priced) are those ranked first
+	// and last; INDEX and MATCH
 	// work in every spreadsheet program, unlike the newer conditional MIN and MAX.
 	cost, rank := col("total_cost"), col("cost_rank")
-	tot.Append(workbook.Text("lowest total cost of an ok scenario"+unitSuffix(cur)),
+	tot.Append(workbook.Text("lowest total cost of a ranked scenario"+unitSuffix(cur)),
 		costAtRank("IFERROR(INDEX("+cost+",MATCH(1,"+rank+",0)),\"\")", 1))
-	tot.Append(workbook.Text("highest total cost of an ok scenario"+unitSuffix(cur)),
+	tot.Append(workbook.Text("highest total cost of a ranked scenario"+unitSuffix(cur)),
 		costAtRank("IFERROR(INDEX("+cost+",MATCH(MAX("+rank+"),"+rank+",0)),\"\")", maxRank))
 	return wb.Bytes()
 }

@@ -116,6 +116,7 @@ type Report struct {
 	Failed     int
 	Failures   []Row    // the failed scenarios' rows, in index order
 	DemoPrices int      // scenarios priced by the invented demo price book
+	Incomplete int      // of OK, those not ranked: their totals leave out items not priced (Row.Incomplete)
 	Files      []string // files written besides the scenario folders, sorted
 	// Notes say what the run did that the user may not expect: a kept base scenario planned
 	// again because its folder was not as the sweep wrote it, folders in the output folder
@@ -156,6 +157,9 @@ func (r *Report) count(row Row) {
 	switch row.Status {
 	case StatusOK:
 		r.OK++
+		if row.Incomplete() {
+			r.Incomplete++
+		}
 	case StatusInfeasible:
 		r.Infeasible++
 	default:
