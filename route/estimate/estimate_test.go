@@ -23,6 +23,7 @@ import (
 	"spanwright/route/items"
 	"spanwright/route/output"
 	"spanwright/route/plan"
+	"spanwright/route/routing"
 )
 
 // TestPullTensionByHand checks the pulling plan of a simple route against the textbook
@@ -987,5 +988,27 @@ func TestLateralCarriesDuctAtHub(t *testing.T) {
 	}
 	if got, want := p.SpansText(), "E lateral of "+leg.EntranceFrom; got != want {
 		t.Errorf("pull runs along %q, want %q", got, want)
+	}
+}
+
+// TestPatchCordItem: the bill names a patch cord by what it carries, so that an estimator
+// buys the right one: duplex for an application over two fibres (10GBASE-LR, IEEE 802.3
+// Clause 52), an 8-fibre array cord for parallel optics over eight (40GBASE-SR4, Clause 86),
+// no fibre count for copper (as the catalog gives the applications' fibres).
+func TestPatchCordItem(t *testing.T) {
+	t.Parallel()
+	r := testplan.DemoResult(t)
+	cat := r.Engine.Catalog()
+	for _, c := range []struct{ medium, app, want string }{
+		{"os2", "10GBASE-LR", "patch cord os2, duplex"},
+		{"om4", "40GBASE-SR4", "patch cord om4, 8-fibre array"},
+		{"cat6a", "10GBASE-T", "patch cord cat6a"},
+	} {
+		if got := estimate.PatchCordItem(cat, &routing.Leg{Medium: c.medium, Application: c.app}); got != c.want {
+			t.Errorf("%s %s: %q, want %q", c.medium, c.app, got, c.want)
+		}
+	}
+	if q := testplan.BOMQty(r.Estimate.BOM, "patch cord os2, duplex"); q == 0 {
+		t.Error("the demo bills no duplex os2 patch cord")
 	}
 }
