@@ -351,7 +351,8 @@ func currencyOf(rows []Row) string {
 
 // Compare renders the comparison of rows (every scenario of a sweep, in index order) as the
 // files compare.csv, compare.xlsx and compare.md. keys are the override keys, one column
-// each, in order.
+// each, in order; units the units of the scenarios' files for people (output.UnitsImperial,
+// or "" or output.UnitsMetric), which the lengths follow.
 //
 // compare.csv has a header line, then one line per scenario: index (0-based), id, case, one
 // column per override key (empty where the scenario keeps the base plan's value), status
@@ -361,7 +362,8 @@ func currencyOf(rows []Row) string {
 // new_trench_ft under --units imperial, columnsIn),
 // diverse_links, diverse_single_point (of them, those whose two routes share a single point
 // of failure), diverse_missing, media_mix ("medium:legs" pairs), cost_rank, pareto
-// (yes/no), warnings, error, note, then objective and lower_bound (currency units, empty
+// (yes/no; "no (incomplete)" for an ok scenario whose total leaves out items not priced,
+// which is not ranked either), warnings, error, note, then objective and lower_bound (currency units, empty
 // without a bound) and gap_pct (the gap to the bound in percent, four decimals; empty
 // without a bound). compare.xlsx holds the same table, numbers as numbers, with a
 // second sheet of totals as formulas; compare.md the same as a Markdown table. Text from the
