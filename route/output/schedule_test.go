@@ -2,6 +2,7 @@ package output
 
 import (
 	"context"
+	"maps"
 	"math"
 	"slices"
 	"strconv"
@@ -11,6 +12,7 @@ import (
 	"spanwright/media"
 	"spanwright/route/internal/testplan"
 	"spanwright/route/internal/testsite"
+	"spanwright/route/routing"
 )
 
 // TestScheduleColumns holds links.csv's cable schedule to the workbook's links sheet (the
@@ -104,7 +106,8 @@ func TestScheduleColumns(t *testing.T) {
 // TestSchedulePiecesAddUpToBill holds links.csv's cable schedule to the bill: for every cable
 // construction and size, the pieces the schedule cuts (cables × cut_length_m of the leg's own
 // construction; with an entrance transition, inside_cables × (inside_cut_to_m +
-// inside_cut_from_m) of the inside one) add up to the bill's cable line, so that a buyer
+// inside_cut_from_m) of the inside one) add up to the bill's cable line, whose sources are
+// exactly the legs the schedule cuts such pieces for, so that a buyer
 // ordering reels by the schedule buys what the bill prices (tester 6's finding 4: a leg of
 // osp-loose-tube spliced to ofnr-riser at both entrances gave one cut length for three
 // pieces). The demo has such legs (TWR-OBS over the direct-buried B-OBS).
@@ -120,16 +123,24 @@ func TestSchedulePiecesAddUpToBill(t *testing.T) {
 	cables, cut, inCables, inTo, inFrom := col("cables"), col("cut_length_m"), col("inside_cables"), col("inside_cut_to_m"), col("inside_cut_from_m")
 	f := func(s string) float64 { x, _ := strconv.ParseFloat(s, 64); return x }
 	cut1 := map[media.PriceKey]float64{}
+	byLeg := map[media.PriceKey]map[string]float64{} // the pieces of each leg, by the bill's "leg L/primary"
+	piece := func(k media.PriceKey, l *routing.Leg, m float64) {
+		cut1[k] += m
+		if byLeg[k] == nil {
+			byLeg[k] = map[string]float64{}
+		}
+		byLeg[k]["leg "+l.Label()] += m
+	}
 	transitions := 0
 	for i, row := range rows[1:] {
 		l := &r.Legs[i]
 		if !l.Feasible {
 			continue
 		}
-		cut1[media.PriceKey{Item: media.PriceCable, Medium: l.Medium, Construction: l.Construction, Count: l.Cable.Size.Count}] += f(row[cables]) * f(row[cut])
+		piece(media.PriceKey{Item: media.PriceCable, Medium: l.Medium, Construction: l.Construction, Count: l.Cable.Size.Count}, l, f(row[cables])*f(row[cut]))
 		if l.Inside != "" {
 			transitions++
-			cut1[media.PriceKey{Item: media.PriceCable, Medium: l.Medium, Construction: l.Inside, Count: l.Cable.InsideSize.Count}] += f(row[inCables]) * (f(row[inTo]) + f(row[inFrom]))
+			piece(media.PriceKey{Item: media.PriceCable, Medium: l.Medium, Construction: l.Inside, Count: l.Cable.InsideSize.Count}, l, f(row[inCables])*(f(row[inTo])+f(row[inFrom])))
 		}
 	}
 	if transitions == 0 {
@@ -139,6 +150,11 @@ func TestSchedulePiecesAddUpToBill(t *testing.T) {
 	for _, ln := range r.Estimate.BOM.Lines {
 		if ln.Price.Item == media.PriceCable {
 			billed[ln.Price] += ln.Quantity
+			// The line's sources are the legs whose pieces are of its construction and size.
+			legs := slices.Sorted(maps.Keys(byLeg[ln.Price]))
+			if !slices.Equal(legs, ln.From) {
+				t.Errorf("%s: the bill's line comes from %q, the schedule cuts it for %q", ln.Item, ln.From, legs)
+			}
 		}
 	}
 	for k, m := range billed {
