@@ -1416,8 +1416,9 @@ func (r *run) quantities() {
 	e.Quantities = append(e.Quantities, media.Quantity{Category: media.CategoryConstruction, Item: "handhole for an added pull point",
 		Unit: media.UnitEach, Amount: float64(e.AddedPullPoints), Price: media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole}, From: pulled})
 	// A join no structure within its reel's reach takes needs a splice point built there
-	// (routing.SplicePoint.NoStructure), one for every cable of every leg that joins at that
-	// place: priced at splice_point_each, or listed not priced (media.PriceBook.NotPriced), so
+	// (routing.SplicePoint.NoStructure), one a place, serving every cable of every leg that
+	// joins there (legs sharing a route and reel lengths join at the same places): priced at
+	// splice_point_each, or listed not priced (media.PriceBook.NotPriced), so
 	// that the total and summary.json's not_priced say they are left out. Like the added pull
 	// points, not in any leg's cost.
 	places, joined := map[string]bool{}, []string(nil)
