@@ -88,13 +88,13 @@ func TestLinksCSVPayloads(t *testing.T) {
 	}
 }
 
-// TestImperialBOMMultipliesOut: in bom.csv with --units imperial, every line's unit price per
+// TestImperialBOMUnitPrices: in bom.csv with --units imperial, every line's unit price per
 // foot shows four decimals (a tenth of a cent a foot, as cable is quoted: common practice, no
 // published source; six or seven decimals, 0.9936478, read as noise to an estimator: tester
 // 5's finding 17) and the quantity in feet times it is the extended price (the metric
 // line's, so that the totals agree in either units) within the rounding of that price, half
 // its last decimal per foot.
-func TestImperialBOMMultipliesOut(t *testing.T) {
+func TestImperialBOMUnitPrices(t *testing.T) {
 	t.Parallel()
 	r := testplan.DemoResult(t)
 	var buf bytes.Buffer
