@@ -1219,12 +1219,13 @@ func (b *builder) spans(n *Network) {
 			seq[p.pw]++
 			id = pw.ID + "/" + strconv.Itoa(seq[p.pw])
 		}
-		bends, near := b.lineBends(pc.pts)
+		pts, from, to := canonical(pc)
+		bends, near := b.lineBends(pts)
 		n.Spans = append(n.Spans, Span{
-			ID: id, PathwayID: pw.ID, From: b.ids[pc.from], To: b.ids[pc.to],
-			LengthM: LengthM(pc.pts), Type: pw.Type, Status: pw.Status, EMI: pw.EMI,
+			ID: id, PathwayID: pw.ID, From: b.ids[from], To: b.ids[to],
+			LengthM: LengthM(pts), Type: pw.Type, Status: pw.Status, EMI: pw.EMI,
 			Surface: pw.Surface, Method: pw.Method, MethodSet: pw.MethodSet, Plenum: pw.Plenum, Group: pw.Group, SpareDucts: pw.SpareDucts, DuctMM: pw.DuctMM,
-			BendsDeg: bends, Line: pc.pts, near: near,
+			BendsDeg: bends, Line: pts, near: near,
 		})
 	}
 	sort.Slice(n.Spans, func(i, j int) bool { return n.Spans[i].ID < n.Spans[j].ID })
@@ -1235,6 +1236,30 @@ func (b *builder) spans(n *Network) {
 			b.add(pw.Source, pw.ID, PropID, problemf(ErrDuplicateID, "span id %q is used twice", s.ID))
 		}
 	}
+}
+
+// canonical is a piece's line and ends in the direction its geometry alone decides (endFirst
+// on its two ends; a closed piece by its second and second-to-last points), so a span does
+// not depend on which way its pathway was drawn: its From end, the lengths summed along it,
+// the handholes placed from its From end and the problem's fingerprint stay the same when
+// a line is reversed.
+func canonical(pc piece) (pts orb.LineString, from, to int) {
+	n := len(pc.pts)
+	if n < 2 {
+		return pc.pts, pc.from, pc.to
+	}
+	a, z := pc.pts[0], pc.pts[n-1]
+	if a == z && n > 2 {
+		a, z = pc.pts[1], pc.pts[n-2]
+	}
+	if !endFirst(z, a) {
+		return pc.pts, pc.from, pc.to
+	}
+	pts = make(orb.LineString, n)
+	for i, p := range pc.pts {
+		pts[n-1-i] = p
+	}
+	return pts, pc.to, pc.from
 }
 
 func (b *builder) pathway(id string) Pathway {

@@ -550,9 +550,9 @@ func (r *run) pullPlan(i int) legPulls {
 			sp := &spans[j]
 			rm := radius(sp)
 			if j > first {
-				joins := s.JoinsNetwork(juncs[j]) && (spans[j-1].Status == geo.StatusProposed || sp.Status == geo.StatusProposed)
-				if s.IsStructure(juncs[j]) || slices.Contains(leg.Turns, juncs[j]) || joins {
-					// a structure, or a handhole the plan adds where it turns or new pathway joins
+				if s.IsStructure(juncs[j]) || leg.Cable.Passes(juncs[j]) {
+					// a structure, or a handhole the plan adds that the leg passes (its turn, new
+					// pathway joining, or another leg's, built into its duct run)
 					points = append(points, len(steps))
 				} else if turn := s.Net.TurnDeg(leg.Steps[j-1], leg.Steps[j]); turn > 0 && !atPoint() {
 					rb := math.Min(rm, radius(&spans[j-1]))

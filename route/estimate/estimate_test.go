@@ -54,14 +54,16 @@ func TestPullTensionByHand(t *testing.T) {
 		lengthM, bend  float64
 		tension, other float64
 	}
-	// B → HH-1: 115 m straight, 90°, 100 m. Fed at B: (115·e^(μπ/2) + 100)·W·μ; fed at HH-1:
-	// (100·e^(μπ/2) + 115)·W·μ, the lower. HH-1 → A likewise with 100 m and 15 m.
-	fedB := (north*capstan + east1) * w * mu
-	fedHH := (east1*capstan + north) * w * mu
+	// B → J0002: 115 m straight, W·L·μ either way (fed at B, the first of a tie). J0002 is where
+	// C's new pathway P joins D: the handhole the plan builds there is built into D (routing's
+	// passesOf), so B's cable passes through it, a pull point, and D's 90° bend there is taken
+	// inside it. J0002 → HH-1: 100 m straight. HH-1 → A: 100 m straight, 90°, 15 m. Fed at HH-1:
+	// (100·e^(μπ/2) + 15)·W·μ; fed at A: (15·e^(μπ/2) + 100)·W·μ, the lower.
 	fedHH2 := (east2*capstan + south) * w * mu
 	fedA := (south*capstan + east2) * w * mu
 	wants := []want{
-		{"B", "HH-1", "HH-1", north + east1, 90, fedHH, fedB},
+		{"B", "J0002", "B", north, 0, north * w * mu, north * w * mu},
+		{"J0002", "HH-1", "J0002", east1, 0, east1 * w * mu, east1 * w * mu},
 		{"HH-1", "A", "A", east2 + south, 90, fedA, fedHH2},
 	}
 	var got []estimate.PullSection
@@ -88,18 +90,19 @@ func TestPullTensionByHand(t *testing.T) {
 			t.Errorf("section %d: rated %.0f N within %v, want %.0f N within", n+1, g.RatedN, g.WithinRating, k.MaxPullN)
 		}
 		// TIA-569: conduit bend radius 10 × ID for fibre; SWBP = T/R at the bend (seen).
-		if g.BendRadiusM != 1.0 {
+		if wt.bend > 0 && g.BendRadiusM != 1.0 {
 			t.Errorf("section %d: bend radius %.3f m, want 1.0 m (10 × 100 mm)", n+1, g.BendRadiusM)
 		}
 	}
 	// The SWBP at the bend when fed at A: the tension leaving the bend over its radius.
-	if want := south * w * mu * capstan / 1.0; math.Abs(got[1].SWBPNPerM-want) > 0.05 {
-		t.Errorf("sidewall pressure: got %.2f N/m, want %.2f N/m", got[1].SWBPNPerM, want)
+	if want := south * w * mu * capstan / 1.0; math.Abs(got[2].SWBPNPerM-want) > 0.05 {
+		t.Errorf("sidewall pressure: got %.2f N/m, want %.2f N/m", got[2].SWBPNPerM, want)
 	}
 }
 
 // TestPullPointAdded: with at most 100 m between pull points (TIA-569 sets 30 m for conduit
-// in buildings; a plan may set any), the 215 m from B to HH-1 needs intermediate pull
+// in buildings; a plan may set any), the 115 m from B to J0002 (the handhole built where P
+// joins D) and the 115 m from HH-1 to A need intermediate pull
 // points, billed as handholes once however many legs pass them; and a bend budget below a
 // single bend cannot be met, which is reported.
 func TestPullPointAdded(t *testing.T) {
@@ -141,8 +144,9 @@ func TestPullPointAdded(t *testing.T) {
 			over = append(over, install.Why(p.Over, install.Units{}))
 		}
 	}
-	// A single 90° bend cannot be split: each bend becomes its own section, out of rating.
-	if len(over) != 2 || !strings.Contains(over[0], "bends 90.0° over 60.0°") {
+	// A single 90° bend cannot be split: it is a section of its own, out of rating (D's other
+	// bend, at J0002, is taken inside the handhole built there where P joins).
+	if len(over) != 1 || !strings.Contains(over[0], "bends 90.0° over 60.0°") {
 		t.Errorf("sections over the bend budget: got %q", over)
 	}
 	found := false
@@ -869,8 +873,9 @@ func tapCampus() string {
 // at the book's handhole price, and the pulling plan breaks there: the lateral is a pull of its
 // own, S to the tap, its 90° turn taken inside the handhole (TIA-569 counts bends between pull
 // points, and a pull point ends them), then the tap to A along D. T's lateral ends in the
-// existing handhole HH: its lateral is a pull of its own too, with no handhole added. The crew
-// sets up one pull per section and enters the tap's handhole.
+// existing handhole HH: its lateral is a pull of its own too, with no handhole added; along D
+// its cable passes the tap's handhole, built into D, a pull point too. The crew sets up one
+// pull per section and enters each handhole a cable passes.
 func TestLateralTap(t *testing.T) {
 	t.Parallel()
 	r, err := testplan.PullSolveJSON(t, tapCampus(), nil)
@@ -878,6 +883,7 @@ func TestLateralTap(t *testing.T) {
 		t.Fatal(err)
 	}
 	c := r.Estimate.Construction
+	setups, entries := 0.0, 0.0
 	if len(c.TapJunctions) != 1 {
 		t.Fatalf("tap handholes at %q, want one (S's lateral)", c.TapJunctions)
 	}
@@ -890,10 +896,13 @@ func TestLateralTap(t *testing.T) {
 	}
 	for _, tc := range []struct {
 		link, joint string
-		next        float64 // the length of the pull after the lateral, along D
+		next        []float64 // the lengths of the pulls after the lateral, along D to A
+		entries     float64   // handholes entered: the tap's, and HH
 	}{
-		{"A-S", c.TapJunctions[0], 90},
-		{"A-T", "HH", 190},
+		{"A-S", c.TapJunctions[0], []float64{90}, 1},
+		// T's cable passes the tap's handhole, built into D (its ducts broken out into it):
+		// a pull point, a slack loop and an entry (routing's passesOf).
+		{"A-T", "HH", []float64{100, 90}, 2},
 	} {
 		i, leg := testplan.LegOf(t, r, tc.link)
 		var ps []estimate.PullSection
@@ -903,28 +912,28 @@ func TestLateralTap(t *testing.T) {
 			}
 		}
 		building := leg.Link.To
-		if len(ps) != 2 {
-			t.Fatalf("%s: %d pull sections, want 2: %+v", tc.link, len(ps), ps)
+		if len(ps) != 1+len(tc.next) {
+			t.Fatalf("%s: %d pull sections, want %d: %+v", tc.link, len(ps), 1+len(tc.next), ps)
 		}
 		lat, along := ps[0], ps[1]
 		if lat.Lateral != leg.EntranceTo || lat.From.ID != building || lat.To.ID != tc.joint || math.Abs(lat.LengthM-20) > 0.5 || lat.BendDeg != 0 {
 			t.Errorf("%s: lateral pull %+v, want %s to %s, 20 m straight", tc.link, lat, building, tc.joint)
 		}
-		if along.From.ID != tc.joint || along.To.ID != "A" || math.Abs(along.LengthM-tc.next) > 0.5 {
-			t.Errorf("%s: pull along D %+v, want %s to A, %.0f m", tc.link, along, tc.joint, tc.next)
+		if along.From.ID != tc.joint || ps[len(ps)-1].To.ID != "A" {
+			t.Errorf("%s: pulls along D from %s to %s, want %s to A", tc.link, along.From, ps[len(ps)-1].To, tc.joint)
 		}
+		for k, m := range tc.next {
+			if got := ps[1+k].LengthM; math.Abs(got-m) > 0.5 {
+				t.Errorf("%s: pull %d along D %.1f m, want %.0f m", tc.link, k+1, got, m)
+			}
+		}
+		setups += float64(len(ps) * leg.Cable.Cables)
+		entries += tc.entries * float64(leg.Cable.Cables)
 		if got := lat.SpansText(); got != "lateral of "+leg.EntranceTo {
 			t.Errorf("%s: the lateral pull runs along %q", tc.link, got)
 		}
 	}
-	// Crew: one set-up per section of each cable, one entry per handhole (HH and the tap).
-	setups, entries := 0.0, 0.0
-	for _, l := range r.Legs {
-		if l.Feasible {
-			setups += 2 * float64(l.Cable.Cables)
-			entries += float64(l.Cable.Cables)
-		}
-	}
+	// Crew: one set-up per section of each cable, one entry per handhole it passes.
 	if got := testplan.BOMQty(r.Estimate.BOM, "crew set-up, per pull"); got != setups {
 		t.Errorf("crew set-ups: %v, want %v", got, setups)
 	}

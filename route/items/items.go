@@ -304,10 +304,13 @@ func PullPoint(s *site.Site, j string) bool { return s.IsStructure(j) }
 
 // JoinEnds counts the ends of span sp where a route along it passes a handhole the plan adds
 // because new pathway joins the network there (site.JoinsNetwork): the ends of a proposed
-// span at such junctions. Each is a pull point and a handhole entered. A route from one new
-// span into another at such a junction counts it twice (README, "One cost model"). A route
-// that turns into or out of it there lists no turn (routing.Leg.Turns): this is its one pass
-// through that handhole (the optimizer shares it with the turn edge, routing's turnShare).
+// span at such junctions. A leg passes each such handhole once, whichever way it comes and
+// goes (routing's passesOf): a pull point, a handhole entered, a slack loop. The optimizer
+// prices half a pass at each such end of a span, so that a route from one new span into
+// another pays one; a route from the network into a new span pays the other half in the
+// plan's evaluation (routing's passGapCents) or, where it turns there, on the turn edge
+// (routing's turnShare). A route that turns into or out of it there lists no turn
+// (routing.Leg.Turns).
 func JoinEnds(s *site.Site, sp *geo.Span) float64 {
 	if sp.Status != geo.StatusProposed {
 		return 0

@@ -693,6 +693,29 @@ func GapText(gapPct *float64) string {
 	return PctText(*gapPct) + " %"
 }
 
+// turnsInOtherHandholes counts the junctions, each once, where a feasible leg turns between
+// pathways (routing.Leg.Turns, links.csv's turns) in a handhole the plan adds for new pathway
+// joining or a lateral tapping there, so counted under that purpose and not among the turn
+// handholes (routing.Handhole.Purpose).
+func turnsInOtherHandholes(r *route.Result) int {
+	if r.Estimate == nil {
+		return 0
+	}
+	turn := map[string]bool{}
+	for _, j := range r.Estimate.Construction.TurnJunctions {
+		turn[j] = true
+	}
+	other := map[string]bool{}
+	for _, l := range r.Legs {
+		for _, j := range l.Turns {
+			if l.Feasible && !turn[j] {
+				other[j] = true
+			}
+		}
+	}
+	return len(other)
+}
+
 // PrintSummary writes a short human summary of the result: links and legs, media, cable
 // bought by construction, new construction, pulling, and the total against the budget,
 // lengths and forces in the units of opt.
@@ -743,9 +766,16 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 	if line := diverseLine(s); line != "" {
 		fmt.Fprintln(w, line)
 	}
-	if s.CrossingLegs > 0 || s.TurnHandholes > 0 {
-		fmt.Fprintf(w, "legs through a building: %d; handholes to add where a route turns between pathways: %d (see links.csv)\n",
-			s.CrossingLegs, s.TurnHandholes)
+	if more := turnsInOtherHandholes(r); s.CrossingLegs > 0 || s.TurnHandholes > 0 || more > 0 {
+		also := ""
+		switch {
+		case more == 1:
+			also = "; 1 more turn is in a handhole added where new pathway joins or a lateral taps"
+		case more > 1:
+			also = fmt.Sprintf("; %d more turns are in handholes added where new pathway joins or a lateral taps", more)
+		}
+		fmt.Fprintf(w, "legs through a building: %d; handholes to add where a route turns between pathways: %d%s (see links.csv)\n",
+			s.CrossingLegs, s.TurnHandholes, also)
 	}
 	if s.LowerBoundCents != nil {
 		closed := ""

@@ -60,22 +60,25 @@ func (s Structure) Place(length func(m float64) string) string {
 // by junction id; along new construction, by span and offset; the pulling plan's, as
 // addedPullPoints sorts them), then the existing structures its feasible legs pass, by id.
 // Marks number them in that order; rows may share their Legs, which are not to be changed.
-// The legs through a structure at a junction are those whose spans meet there; through one
-// on a span, those on the span; through a pull point on a lateral, those pulled there.
+// The legs of a maintenance hole or handhole where slack loops are stored (one the plan adds
+// at a junction or along new construction, or an existing one, site.Site.LoopStructure) are
+// those whose structures passed hold it (routing.CableTakeoff.Passed: the one list links.csv
+// counts too), each leaving one slack loop there per cable. A structure that stores no loop
+// (an existing pull box or vault, a handhole the pulling plan adds) lists the legs through it:
+// those whose spans meet there, those on its span, or those pulled there on a lateral.
 func StructuresOf(r *route.Result) ([]Structure, error) { return structuresOf(r, addedPullPoints(r)) }
 
 // structuresOf is StructuresOf given the plan's added pull points (addedPullPoints), for a
 // caller that has them already.
 func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 	net := r.Site.Net
-	// The junctions and spans whose legs the table names, and then those legs: only these,
-	// for a large plan's legs pass tens of thousands of others.
+	// The junctions and spans of structures storing no loop, whose legs are those through
+	// them: only these, for a large plan's legs pass tens of thousands of others.
 	atJunction, onSpan := map[string][]string{}, map[string][]string{}
-	for _, h := range r.Handholes {
-		atJunction[h.Junction] = nil
-	}
 	for _, st := range r.Site.Campus.Structures {
-		atJunction[st.ID] = nil
+		if !r.Site.LoopStructure(st.ID) {
+			atJunction[st.ID] = nil
+		}
 	}
 	for _, p := range pulls {
 		switch {
@@ -83,11 +86,6 @@ func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 			atJunction[p.junction] = nil
 		case !p.lateral:
 			onSpan[p.span] = nil
-		}
-	}
-	if r.Estimate != nil {
-		for _, h := range r.Estimate.Construction.RunHandholes {
-			onSpan[h.Span] = nil
 		}
 	}
 	// addTo appends label to m[k] when k is wanted, once per leg (a leg's labels come
@@ -98,6 +96,12 @@ func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 			m[k] = append(legs, label)
 		}
 	}
+	// The legs of the structures storing loops, from the legs' own lists.
+	type place struct {
+		id, span string
+		atM      float64
+	}
+	passed := map[place][]string{}
 	for i := range r.Legs {
 		l := &r.Legs[i]
 		if !l.Feasible {
@@ -113,6 +117,16 @@ func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 			addTo(atJunction, sp.To, label)
 			addTo(onSpan, st.SpanID, label)
 		}
+		for _, p := range l.Cable.Passed {
+			k := place{p.ID, p.Span, p.AtM}
+			passed[k] = append(passed[k], label) // each structure once in a leg's list
+		}
+	}
+	legsAt := func(k place) []string {
+		if legs := passed[k]; legs != nil {
+			return legs
+		}
+		return []string{}
 	}
 	var out []Structure
 	add := func(s Structure) {
@@ -131,7 +145,7 @@ func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 			return nil, fmt.Errorf("handhole at %s: not a junction of the network", h.Junction)
 		}
 		add(Structure{ID: h.Junction, Status: StructureToBuild, Type: geo.StructureHandhole, Purpose: h.Purpose(),
-			Point: j.Point, Legs: atJunction[h.Junction]})
+			Point: j.Point, Legs: legsAt(place{id: h.Junction})})
 	}
 	if r.Estimate != nil {
 		for _, h := range r.Estimate.Construction.RunHandholes {
@@ -140,7 +154,7 @@ func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 				return nil, fmt.Errorf("handhole along new construction on %s: not a span of the network", h.Span)
 			}
 			add(Structure{Span: h.Span, AtM: h.AtM, Status: StructureToBuild, Type: geo.StructureHandhole, Purpose: PurposeRun,
-				Point: sp.PointAt(h.AtM), Legs: onSpan[h.Span]})
+				Point: sp.PointAt(h.AtM), Legs: legsAt(place{span: h.Span, atM: h.AtM})})
 		}
 	}
 	for _, p := range pulls {
@@ -174,6 +188,9 @@ func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 	slices.SortStableFunc(existing, func(a, b geo.Structure) int { return strings.Compare(a.ID, b.ID) })
 	for _, st := range existing {
 		legs := atJunction[st.ID]
+		if r.Site.LoopStructure(st.ID) {
+			legs = passed[place{id: st.ID}]
+		}
 		if len(legs) == 0 {
 			continue
 		}

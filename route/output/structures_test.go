@@ -1,13 +1,16 @@
 package output
 
 import (
+	"fmt"
 	"maps"
+	"math"
 	"slices"
 	"strconv"
 	"strings"
 	"testing"
 
 	"spanwright/geo"
+	"spanwright/route"
 	"spanwright/route/internal/testplan"
 )
 
@@ -159,5 +162,118 @@ func TestListCell(t *testing.T) {
 	}
 	if short := listCell(ids[:3], "x"); short != strings.Join(ids[:3], " ") {
 		t.Errorf("short list %q", short)
+	}
+}
+
+// TestStructuresTableIsTheSchedule: a crew placing slack loops by the structures table and a
+// buyer cutting cable by links.csv's schedule see the same structures (regression trial,
+// finding 2: the table listed legs straight through handholes the schedule did not count, and
+// the schedule counted a handhole twice where a leg both turned and joined new pathway). For
+// every feasible leg of the demo and of the generated campuses of 40 and 200 buildings
+// (campusfiles, seed 1): the rows of the table that store slack loops (all but existing pull
+// boxes and vaults and the pulling plan's handholes) and list the leg are the structures
+// links.csv's structures_passed counts (routing.CableTakeoff.Passed), none twice; its slack
+// loops at them are that count times design.slack_loop_structure_m, one loop at each
+// maintenance hole or handhole passed (README; a slack loop is stored in each structure the
+// cable passes: TIA-758-B, from memory), and links.csv's slack_loops_m adds the service coils
+// and entrance loops. And the terminal's count of turn handholes with the turns in handholes
+// added for another purpose names as many junctions as links.csv's turns (finding 7).
+func TestStructuresTableIsTheSchedule(t *testing.T) {
+	t.Parallel()
+	campus := func(n int) func(testing.TB) *route.Result {
+		return func(tb testing.TB) *route.Result {
+			s, p := testplan.CampusSite(tb, n)
+			return testplan.SolvePlan(tb, s, p)
+		}
+	}
+	for _, tc := range []struct {
+		name  string
+		solve func(testing.TB) *route.Result
+	}{
+		{"demo", testplan.DemoResult},
+		{"40 buildings", campus(40)},
+		{"200 buildings", campus(200)},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			t.Parallel()
+			r := tc.solve(t)
+			sts, err := StructuresOf(r)
+			if err != nil {
+				t.Fatal(err)
+			}
+			table := map[string][]string{} // leg label → the loop-storing rows listing it
+			for _, st := range sts {
+				loops := (st.Status == StructureToBuild && st.Purpose != PurposePull) ||
+					(st.Status == StructureExisting && strings.Contains(st.Purpose, PurposeSlackLoop))
+				if loops {
+					for _, l := range st.Legs {
+						table[l] = append(table[l], st.Place(metresOf))
+					}
+				}
+			}
+			d := r.Plan.Design
+			opt := WriteOptions{}
+			head := scheduleHead(opt)
+			col := func(name string) int { return slices.Index(head, name) }
+			checked, passes := 0, 0
+			turns := map[string]bool{}
+			for i := range r.Legs {
+				l := &r.Legs[i]
+				if !l.Feasible {
+					continue
+				}
+				label := l.Label()
+				row := scheduleText(opt, r, i)
+				var passed []string
+				for _, p := range l.Cable.Passed {
+					passed = append(passed, Structure{ID: p.ID, Span: p.Span, AtM: p.AtM}.Place(metresOf))
+				}
+				if got := row[col("structures_passed")]; got != strconv.Itoa(len(passed)) {
+					t.Errorf("%s: structures_passed %s, its list %d: %q", label, got, len(passed), passed)
+				}
+				listed := slices.Clone(table[label])
+				slices.Sort(passed)
+				slices.Sort(listed)
+				if len(slices.Compact(slices.Clone(passed))) != len(passed) || len(slices.Compact(slices.Clone(listed))) != len(listed) {
+					t.Errorf("%s: a structure twice: schedule %q, table %q", label, passed, listed)
+				}
+				if !slices.Equal(passed, listed) {
+					t.Errorf("%s: schedule passes %q, the structures table lists it at %q", label, passed, listed)
+				}
+				delete(table, label)
+				if want := float64(len(passed)) * d.SlackLoopStructureM; math.Abs(l.Cable.StructureLoopM-want) > 1e-9 {
+					t.Errorf("%s: structure loops %.2f m, want %d × %.2f m", label, l.Cable.StructureLoopM, len(passed), d.SlackLoopStructureM)
+				}
+				slack, err := strconv.ParseFloat(row[col("slack_loops_m")], 64)
+				if want := l.Cable.EndSlackM + l.Cable.EntranceLoopM + float64(len(passed))*d.SlackLoopStructureM; err != nil || math.Abs(slack-want) > 0.05 {
+					t.Errorf("%s: slack_loops_m %q, want %.1f", label, row[col("slack_loops_m")], want)
+				}
+				for _, j := range l.Turns {
+					turns[j] = true
+				}
+				checked++
+				passes += len(passed)
+			}
+			for l, at := range table {
+				t.Errorf("the structures table lists %s, no feasible leg, at %q", l, at)
+			}
+			var out strings.Builder
+			if err := PrintSummary(&out, r, opt); err != nil {
+				t.Fatal(err)
+			}
+			var n, more int
+			for _, line := range strings.Split(out.String(), "\n") {
+				if _, rest, ok := strings.Cut(line, "where a route turns between pathways: "); ok {
+					fmt.Sscanf(rest, "%d", &n)
+					if _, m, ok := strings.Cut(rest, "; "); ok {
+						fmt.Sscanf(m, "%d more", &more)
+					}
+				}
+			}
+			if n+more != len(turns) {
+				t.Errorf("terminal: %d turn handholes and %d more turns, links.csv's turns name %d junctions", n, more, len(turns))
+			}
+			t.Logf("%s: %d legs, %d structures passed, %d turn junctions (%d in turn handholes)", tc.name, checked, passes, len(turns), n)
+		})
 	}
 }

@@ -262,11 +262,13 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 		// structure crosses two of its spans; the halves at a route's two ends are its
 		// demand's (demand).
 		pull, entered := crewHalves(s, sp.From, sp.To)
-		// Handholes along its run, and where it joins the network (half of one where it is a
-		// run of its own at a junction split for turns: the turn edge carries the other half,
-		// layout.turnShare). Each is a structure passed as the campus's are (passesOf): a slack
-		// loop, a crew entry, the bid items per structure.
-		hh := float64(len(runHH[sp.ID])) + items.JoinEnds(s, sp) - 0.5*float64(lay.joinEnds[i])
+		// Handholes along its run, and half of each where it joins the network (a route from
+		// one joining span into another passes that handhole once, half on each; one from the
+		// network into it pays the other half in the plan's evaluation, passGapCents, or, where
+		// the junction is split for turns, its crew share on the turn edge, layout.turnShare).
+		// Each is a structure passed as the campus's are (passesOf): a slack loop, a crew
+		// entry, the bid items per structure passed.
+		hh := float64(len(runHH[sp.ID])) + 0.5*items.JoinEnds(s, sp)
 		loops := (items.LoopM(s, d, sp.From)+items.LoopM(s, d, sp.To))/2 + hh*d.SlackLoopStructureM
 		// The loops count in the channel too (the loss budget's), so in the reach (ReachM).
 		e := optimize.Edge{ID: sp.ID, From: int(u), To: int(v), LengthM: sp.LengthM, CableM: items.Wasted(d, sp.LengthM+loops), ReachM: sp.LengthM + loops,
@@ -338,8 +340,8 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 			// structure passed are left out here: a pass through a junction split for turns
 			// may take one turn edge or two halves (through a joining span's run), and a loop
 			// priced in halves rounds to a cent apart, which would let cents of rounding pick
-			// between equal routes (TestStartRoutesRebuildsSolution). The bill prices them
-			// (README, "One cost model"; modelGap in route/costmodel_test.go).
+			// between equal routes (TestStartRoutesRebuildsSolution). The plan's evaluation
+			// prices them on the routes returned (passGapCents; README, "One cost model").
 			share := float64(lay.turnShare(x.from, x.to)) / 2
 			e.ID, e.PerCableCents = "turn at "+x.junction, m.cents(items.AtJunctions(m.prices, share, share)...)
 			// Its loop is in the channel all the same (its share of it: reach is not priced, so

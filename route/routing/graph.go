@@ -98,10 +98,8 @@ type layout struct {
 	noTransit []bool
 	// joinNode marks, by node, a run of one proposed span at a junction split for turns where
 	// new pathway joins the network (site.JoinsNetwork): a route along that span passes the
-	// handhole its joining adds, turning there or not. joinEnds counts, by span index, the ends
-	// of each such span (turnShare).
+	// handhole its joining adds, turning there or not (turnShare).
 	joinNode  []bool
-	joinEnds  map[int]int
 	charges   []junctionCharge
 	entrances []entranceEdges // of buildings with several entrances, in building then entrance order
 	groups    int             // the shared-risk groups the entrance copies use, numbered after the spans'
@@ -258,7 +256,7 @@ func newLayout(s *site.Site) *layout {
 					l.setEnd(net, i, jn.ID, n)
 				}
 				if joins && len(run) == 1 && net.Spans[run[0]].Status == geo.StatusProposed {
-					l.markJoin(n, run[0])
+					l.markJoin(n)
 				}
 			}
 		default:
@@ -360,16 +358,12 @@ func newLayout(s *site.Site) *layout {
 	return l
 }
 
-// markJoin records node n as a run of the one proposed span i that joins the network there.
-func (l *layout) markJoin(n, i int) {
+// markJoin records node n as a run of one proposed span that joins the network there.
+func (l *layout) markJoin(n int) {
 	for len(l.joinNode) <= n {
 		l.joinNode = append(l.joinNode, false)
 	}
 	l.joinNode[n] = true
-	if l.joinEnds == nil {
-		l.joinEnds = map[int]int{}
-	}
-	l.joinEnds[i]++
 }
 
 // isJoin reports whether node n is a run of one joining proposed span (markJoin).
@@ -377,44 +371,54 @@ func (l *layout) isJoin(n int) bool { return n < len(l.joinNode) && l.joinNode[n
 
 // Crew shares at a junction split for turns where new pathway joins (joinNode). A route along
 // a joining span passes a pull point and enters a handhole where it joins (items.JoinEnds, on
-// the span, in the bill); a route that turns there from one run into another does so too
-// (Leg.Turns). One pass through the one handhole there is one set-up and one entry per cable,
-// so the optimizer's graph shares it out, in halves:
+// the span, a half at each end); a route that turns there from one run into another does so
+// too (Leg.Turns). One pass through the one handhole there is one set-up and one entry per
+// cable (passesOf), so the optimizer's graph shares it out, in halves:
 //
-//	turn edge between two ordinary runs, or two joining ones:  1
+//	turn edge between two ordinary runs:                        1
 //	turn edge between an ordinary run and a joining one:        ½
-//	a joining span's end there:                                 ½ (in the bill, 1)
+//	turn edge between two joining runs:                         0
+//	a joining span's end there:                                 ½
 //
-// A route from a street into the joining span pays ½ + ½, one from one street into another
-// over the joining span's node ½ + ½, one straight on along the street nothing. turnsListed
-// gives the turns the leg lists for a pass over turn edges, so that the bill (turns listed
-// and JoinEnds, in wholes) counts what the optimizer counted. (A route that reached a joining
-// span's node by an entrance edge, not along the span, and turned on would pay the optimizer
-// half a share less than the bill; the entrance has an edge to every run there, so no plan
-// takes that way.)
+// A route from a street into the joining span pays ½ + ½, one from one joining span into
+// another ½ + ½, one from one street into another over the joining span's node ½ + ½, one
+// straight on along the street nothing here (it passes the handhole all the same when the
+// plan builds it; the plan's evaluation prices that pass, passGapCents). turnsListed gives the
+// turns the leg lists for a pass over turn edges. (A route that reached a joining span's node
+// by an entrance edge, not along the span, and turned on would pay the optimizer half a share
+// less than the bill; the entrance has an edge to every run there, so no plan takes that way.)
 
 // turnShare is the crew share, in halves, of the turn edge between nodes u and v.
 func (l *layout) turnShare(u, v int) int {
-	if l.isJoin(u) != l.isJoin(v) {
+	switch ju, jv := l.isJoin(u), l.isJoin(v); {
+	case ju && jv:
+		return 0
+	case ju != jv:
 		return 1
 	}
 	return 2
 }
 
 // turnsListed is how many turns a route lists (Leg.Turns) for a pass through one junction
-// over the turn edges between nodes path[0], …, path[m] (m ≥ 1): the halves of the edges, less
-// the half a joining span at either end carries itself, in wholes.
+// over the turn edges between nodes path[0], …, path[m] (m ≥ 1): one for every turn edge
+// between two ordinary runs, and one for a way from an ordinary run to another through
+// joining runs; none into or out of a joining span, whose handhole that is.
 func (l *layout) turnsListed(path []int) int {
-	halves := 0
+	n := 0
+	from := -1 // the ordinary run the way last left, -1 while on joining runs or at the start on one
+	if !l.isJoin(path[0]) {
+		from = path[0]
+	}
 	for k := 1; k < len(path); k++ {
-		halves += l.turnShare(path[k-1], path[k])
-	}
-	for _, n := range []int{path[0], path[len(path)-1]} {
-		if l.isJoin(n) {
-			halves--
+		if l.isJoin(path[k]) {
+			continue
 		}
+		if from >= 0 {
+			n++
+		}
+		from = path[k]
 	}
-	return halves / 2
+	return n
 }
 
 // numberClasses lists the span classes of the network's spans (and of the laterals, when an

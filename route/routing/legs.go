@@ -101,7 +101,7 @@ func (c LegCost) TotalCents() int64 {
 }
 
 // legsOf turns the optimizer's route of one link into its legs, with media and costs.
-func legsOf(s *site.Site, cm *Model, lay *layout, prob *optimize.Problem, rt *optimize.Route, l *site.Link, info demandInfo, why string, runHH map[string][]float64) []Leg {
+func legsOf(s *site.Site, cm *Model, lay *layout, prob *optimize.Problem, rt *optimize.Route, l *site.Link, info demandInfo, why string, built builtOn) []Leg {
 	from, to := lay.endEntry[l.To], lay.endEntry[l.From]
 	base := Leg{Link: l, RiserM: info.facts.RiserM, LateralM: from.LateralM + to.LateralM, StrandsCable: info.strands}
 	primary := base
@@ -126,7 +126,7 @@ func legsOf(s *site.Site, cm *Model, lay *layout, prob *optimize.Problem, rt *op
 		}
 		return legs
 	}
-	fillLeg(s, cm, lay, &primary, rt.Primary, rt.Medium, info, runHH)
+	fillLeg(s, cm, lay, &primary, rt.Primary, rt.Medium, info, built)
 	// Each leg carries the construction on its own edges (optimize.Leg.ConstructionCents): the
 	// route's shares of new trench, added duct and handholes, split by the leg that uses them.
 	primary.Cost.ConstructionCents += rt.Primary.ConstructionCents
@@ -135,7 +135,7 @@ func legsOf(s *site.Site, cm *Model, lay *layout, prob *optimize.Problem, rt *op
 		d := base
 		d.Name = LegDiverse
 		if len(rt.Secondary.Hops) > 0 {
-			fillLeg(s, cm, lay, &d, rt.Secondary, rt.Medium, info, runHH)
+			fillLeg(s, cm, lay, &d, rt.Secondary, rt.Medium, info, built)
 			d.Cost.ConstructionCents += rt.Secondary.ConstructionCents
 			// Both legs leave a building with one entrance by it: diverse outside, not there.
 			for _, b := range []string{l.To, l.From} {
@@ -165,9 +165,9 @@ func isTurn(lay *layout, spans, e int) bool {
 }
 
 // fillLeg sets a leg's route and its medium from the rule engine on the route's own facts;
-// the estimate prices it (package estimate). runHH holds the handholes along new construction
-// by span ID (runHandholes).
-func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, medium string, info demandInfo, runHH map[string][]float64) {
+// the estimate prices it (package estimate). built is where the plan builds handholes
+// (passesOf).
+func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, medium string, info demandInfo, built builtOn) {
 	if e, ok := lay.endEntry[leg.Link.To]; ok {
 		leg.EntranceTo = e.ID
 	}
@@ -260,7 +260,7 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, me
 	}
 	sort.Strings(facts.PathwayTypes)
 	// The installation's slack loops and reel joins go into the loss budget.
-	leg.Cable = takeoff(s, cm.design, leg, runHH)
+	leg.Cable = takeoff(s, cm.design, leg, built)
 	facts.SlackM, facts.Splices = leg.Cable.SlackM(), facts.Splices+leg.Cable.Joins
 	ch := cm.eng.Choose(facts)
 	leg.Rejected = ch.Rejected

@@ -9,6 +9,7 @@ import (
 	"strings"
 
 	"spanwright/geo"
+	"spanwright/media"
 	"spanwright/route/internal/ctxio"
 	"spanwright/route/items"
 	"spanwright/route/optimize"
@@ -171,21 +172,42 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 			}
 		}
 	}
-	runHH := site.HandholesBySpan(r.Runs)
-	// Each link's legs are its own (the engine's caches are safe for concurrent use, the
-	// rest is read): worked out side by side, assembled in link order.
-	legs := make([][]Leg, len(links))
-	if err := ctxio.Each(ctx, len(links), func(i int) {
-		legs[i] = legsOf(s, m, lay, prob, &sol.Routes[i], &links[i], infos[i], infeasible[i], runHH)
-	}); err != nil {
-		return nil, err
-	}
-	for _, l := range legs {
-		r.Legs = append(r.Legs, l...)
-	}
-	r.Entrances = entrancesUsed(s, lay, r.Legs)
+	// The handholes the plan builds, where every leg passing them leaves a slack loop
+	// (passesOf): along its runs of new construction, and at junctions, known from the routes
+	// before the media are chosen, but for the taps of buildings with one entrance, built when a
+	// feasible leg uses the entrance: taken first as every routed leg's, then as the feasible
+	// legs' until the two agree (a leg the rules reject leaves its tap unbuilt, and the legs
+	// passing that junction are measured again).
+	built := builtOn{along: site.HandholesBySpan(r.Runs)}
+	hs, _ := handholesOf(s, lay, prob, sol, routedTaps(s, lay, sol, links))
+	built.at = handholeJunctions(hs)
 	var unpaid int64 // handholes of prepaid charges that no used tap paid (prepaidTaps)
-	r.Handholes, unpaid = handholesOf(s, lay, prob, sol, r.Entrances)
+	legs := make([][]Leg, len(links))
+	for round := 1; ; round++ {
+		// Each link's legs are its own (the engine's caches are safe for concurrent use, the
+		// rest is read): worked out side by side, assembled in link order.
+		if err := ctxio.Each(ctx, len(links), func(i int) {
+			legs[i] = legsOf(s, m, lay, prob, &sol.Routes[i], &links[i], infos[i], infeasible[i], built)
+		}); err != nil {
+			return nil, err
+		}
+		r.Legs = r.Legs[:0]
+		for _, l := range legs {
+			r.Legs = append(r.Legs, l...)
+		}
+		r.Entrances = entrancesUsed(s, lay, r.Legs)
+		r.Handholes, unpaid = handholesOf(s, lay, prob, sol, r.Entrances)
+		at := handholeJunctions(r.Handholes)
+		if maps.Equal(at, built.at) || round == maxHandholeRounds {
+			break
+		}
+		built.at = at
+	}
+	// The passes through handholes at junctions that the optimizer's edges price in part or not
+	// at all, priced here on the routes it returned (passGapCents).
+	for i := range links {
+		r.ObjectiveCents += m.passGapCents(s, lay, prob, i, &sol.Routes[i], legs[i])
+	}
 	hh := m.cents(items.JoinHandholes(1))
 	// What a building with one entrance pays whatever the routes is carried by the legs that
 	// use the entrance, in equal shares, as the legs through an entrance of a building with
@@ -309,6 +331,104 @@ func handholesOf(s *site.Site, lay *layout, prob *optimize.Problem, sol *optimiz
 		}
 	}
 	return hs, unpaid
+}
+
+// maxHandholeRounds bounds SolveFrom's rounds of measuring the legs against the handholes
+// built at junctions: the second agrees unless a leg the first round's taps made infeasible
+// becomes feasible without them.
+const maxHandholeRounds = 3
+
+// handholeJunctions is the set of the junctions of hs.
+func handholeJunctions(hs []Handhole) map[string]bool {
+	out := make(map[string]bool, len(hs))
+	for _, h := range hs {
+		out[h.Junction] = true
+	}
+	return out
+}
+
+// routedTaps lists, as entrances used, those of buildings with one entrance at either end of
+// a link the optimizer routed whose counted lateral taps a duct: the taps the routes build if
+// every routed leg is feasible (handholesOf's used).
+func routedTaps(s *site.Site, lay *layout, sol *optimize.Solution, links []site.Link) []EntranceUse {
+	var out []EntranceUse
+	for i := range sol.Routes {
+		if !sol.Routes[i].Feasible {
+			continue
+		}
+		for _, b := range []string{links[i].To, links[i].From} {
+			if e, ok := lay.endEntry[b]; ok && s.TapOf(e) {
+				out = append(out, EntranceUse{Building: b, Entrance: e.ID, LateralM: e.LateralM, Single: true, Built: e.Built, Tap: e.Junction})
+			}
+		}
+	}
+	return out
+}
+
+// passGapCents is what the optimizer's edges leave out of, or (in ties of unpriced crews) add
+// to, the passes of link d's routed legs (route rt, legs as legsOf made them) through the
+// handholes the plan builds at junctions, at the option's prices. The bill counts one pass per
+// handhole per leg (passesOf): its slack loop (cable with waste, pulled as duct), the bid items
+// per structure passed, and a crew pull set-up and entry, per cable. The edges price what a
+// route decides alone: half a pass at each end of an opened span where it joins the network
+// (items.JoinEnds), the crew's share on a turn edge (layout.turnShare) and a whole pass at a
+// lateral's tap; a turn's slack loop and bid items, the other half where a route turns from
+// the network into a joining span, and a pass straight through a handhole other routes build
+// are the plan's, counted here (README, "One cost model").
+func (m *Model) passGapCents(s *site.Site, lay *layout, prob *optimize.Problem, d int, rt *optimize.Route, legs []Leg) int64 {
+	if !rt.Feasible {
+		return 0
+	}
+	var opt *optimize.Option
+	for o := range prob.Demands[d].Options {
+		if prob.Demands[d].Options[o].Name == rt.Medium {
+			opt = &prob.Demands[d].Options[o]
+		}
+	}
+	if opt == nil {
+		return 0
+	}
+	dsg := m.design
+	cables := float64(max(opt.Cables, 1))
+	loopCents := func(n float64) int64 { // n slack loops of each cable, with their bid items per structure passed
+		loopM := n * dsg.SlackLoopStructureM
+		return media.MulCents(opt.CablePerMCents, items.Wasted(dsg, loopM)) +
+			m.cents(items.Times(cables, items.StructureLoops(loopM)...)...) + m.bidPer(media.BidBases{Structures: 1}, n*cables)
+	}
+	crewCents := func(n float64) int64 { return m.cents(items.Times(cables, items.AtJunctions(m.prices, n, n)...)...) }
+	var c int64
+	ol := []optimize.Leg{rt.Primary, rt.Secondary}
+	for k := range legs {
+		if k >= len(ol) || len(ol[k].Hops) == 0 || !legs[k].Feasible {
+			continue // a leg the rules reject is the optimizer's as routed: the bill has none of it
+		}
+		var loops, crews float64 // what the edges priced
+		for _, h := range ol[k].Hops {
+			x, extra := lay.isExtra(len(s.Net.Spans), h.Edge)
+			switch {
+			case !extra:
+				n := 0.5 * items.JoinEnds(s, &s.Net.Spans[h.Edge])
+				loops, crews = loops+n, crews+n
+			case x.kind == edgeTurn:
+				crews += float64(lay.turnShare(x.from, x.to)) / 2
+			case x.kind == edgeEntrance && x.entry.LateralM > 0 && s.TapOf(x.entry):
+				loops, crews = loops+1, crews+1
+			}
+		}
+		for _, b := range []string{legs[k].Link.To, legs[k].Link.From} {
+			if e, ok := lay.endEntry[b]; ok && s.TapOf(e) {
+				loops, crews = loops+1, crews+1 // the demand's (demand)
+			}
+		}
+		passes := 0.0
+		for _, p := range legs[k].Cable.Passed {
+			if p.Added && p.Span == "" {
+				passes++
+			}
+		}
+		c += loopCents(passes-loops) + crewCents(passes-crews)
+	}
+	return c
 }
 
 // entrancesUsed lists the entrances feasible legs use, by building then entrance ID.

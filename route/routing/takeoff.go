@@ -16,9 +16,12 @@ import (
 type CableTakeoff struct {
 	EndSlackM     float64 // service coils at both ends: 2 × design.slack_m
 	EntranceLoopM float64 // slack loops at both building entrances
-	// Structures is the maintenance holes and handholes the cable passes (passesOf): those
-	// of the campus and, of them, AddedStructures the handholes the plan builds. Each gets a
-	// slack loop, a crew entry and the bid items per structure passed, per cable.
+	// Passed is the maintenance holes and handholes the cable passes, each once, in travel
+	// order from the served building (passesOf): the leg's one list of structures, which the
+	// structures table and links.csv read. Structures counts them and AddedStructures those
+	// of them the plan builds. Each gets a slack loop, a crew entry and pull set-up and the
+	// bid items per structure passed, per cable.
+	Passed          []SplicePoint
 	Structures      int
 	AddedStructures int
 	StructureLoopM  float64 // slack loops at those structures
@@ -87,9 +90,10 @@ func (t CableTakeoff) SlackM() float64 { return t.EndSlackM + t.EntranceLoopM + 
 // takeoff measures a routed leg's cable before its medium is known: slack loops, channel,
 // waste and reels. The rule engine then decides on the channel and the reel joins (fed back
 // as splices in the loss budget); Fit completes it with the chosen construction.
-func takeoff(s *site.Site, d plan.Design, leg *Leg, runHH map[string][]float64) CableTakeoff {
+func takeoff(s *site.Site, d plan.Design, leg *Leg, built builtOn) CableTakeoff {
 	t := CableTakeoff{EndSlackM: 2 * d.SlackM, EntranceLoopM: 2 * d.SlackLoopEntranceM}
-	passes, spans := passesOf(s, d, leg, runHH)
+	passes, spans := passesOf(s, d, leg, built)
+	t.Passed = passes
 	for _, p := range passes {
 		t.Structures++
 		if p.Added {
@@ -147,18 +151,33 @@ func (p SplicePoint) Text(length func(m float64) string) string {
 	return p.ID
 }
 
+// builtOn is where the plan builds handholes, which the legs' structure lists (passesOf)
+// read: at junctions (Routed.Handholes, by junction ID, whatever their reasons) and along the
+// runs of new construction (by span ID, metres from the span's from end: site.NewRun's
+// handholes).
+type builtOn struct {
+	at    map[string]bool
+	along map[string][]float64
+}
+
 // passesOf lists the maintenance holes and handholes a leg's cable passes, in travel order
-// from the served building, each with where it is along the channel: the campus's own at the
-// junctions of its route, its ends included (items.Entered), and the handholes the plan
-// builds on its way (Added): where it turns between pathways (Leg.Turns), where a lateral at
-// either end taps a duct (site.Site.TapOf), along the runs of new construction on its spans
-// (runHH, by span ID, metres from the span's from end: site.NewRun's handholes) and where its
-// new pathway joins the network (items.JoinEnds, which counts a route from one new span into
-// another at such a junction twice, as the optimizer does). A handhole the pulling plan adds
-// for a pull over its limits (estimate.PullSection.AddedFrom) is not among them: it is
-// placed once the cable is chosen, after this count. Each pass leaves a slack loop of
+// from the served building, each once, with where it is along the channel: the campus's own
+// at the junctions of its route, its ends included (items.Entered), and the handholes the
+// plan builds (Added) at the junctions of its route (built.at) and along the runs of new
+// construction on its spans (built.along). It is the leg's one list of structures: the slack
+// loops, the crew's entries and pull set-ups, the bid items per structure passed, the
+// structures table's legs and links.csv's structures_passed all read it.
+//
+// A handhole built at a junction is built into the duct runs that meet there (the ducts are
+// broken out into it, as at a maintenance hole on a run), so every leg whose route passes the
+// junction passes through it and leaves its one slack loop there, whether it turns, joins
+// new pathway, taps by a lateral or runs straight on (README, "Structures passed"); but a
+// leg that only passes the junction on aerial spans, in the strand overhead, does not (common
+// practice, no published source). A handhole the pulling plan adds for a pull over its limits
+// (estimate.PullSection.AddedFrom) is not among them: it is placed once the cable is chosen,
+// after this list, and holds no slack loop. Each pass leaves a slack loop of
 // design.slack_loop_structure_m, counted on the channel where it is.
-func passesOf(s *site.Site, d plan.Design, leg *Leg, runHH map[string][]float64) ([]SplicePoint, []spanOnChannel) {
+func passesOf(s *site.Site, d plan.Design, leg *Leg, built builtOn) ([]SplicePoint, []spanOnChannel) {
 	var out []SplicePoint
 	var spans []spanOnChannel
 	at := 0.0
@@ -167,68 +186,50 @@ func passesOf(s *site.Site, d plan.Design, leg *Leg, runHH map[string][]float64)
 		p.ChannelM = at
 		out = append(out, p)
 	}
-	lateralOf := func(b, id string) (float64, bool) {
+	lateralOf := func(b, id string) float64 {
 		for _, e := range s.Net.EntrancesOf(b) {
 			if e.ID == id {
-				return e.LateralM, s.TapOf(e)
+				return e.LateralM
 			}
 		}
-		return 0, false
+		return 0
 	}
-	var to, from string
+	to := ""
 	if leg.Link != nil {
-		to, from = leg.Link.To, leg.Link.From
+		to = leg.Link.To
 	}
-	latTo, tapTo := lateralOf(to, leg.EntranceTo)
-	_, tapFrom := lateralOf(from, leg.EntranceFrom)
+	latTo := lateralOf(to, leg.EntranceTo)
 	at = s.RiserM(to) + d.SlackM + d.SlackLoopEntranceM + latTo
 	juncs := s.JunctionsOf(leg.Steps)
-	turns := slices.Clone(leg.Turns)
 	atJunction := func(k int) {
 		j := juncs[k]
-		if k == 0 && tapTo {
-			pass(SplicePoint{ID: j, Added: true})
-		}
-		if items.Entered(s, j) {
+		switch {
+		case items.Entered(s, j):
 			pass(SplicePoint{ID: j})
-		}
-		for len(turns) > 0 && turns[0] == j {
-			turns = turns[1:]
-			pass(SplicePoint{ID: j, Added: true})
-		}
-		for _, q := range []int{k - 1, k} { // the spans ending and starting here
-			if q < 0 || q >= len(leg.Steps) {
-				continue
-			}
-			sp, _ := s.Net.Span(leg.Steps[q].SpanID)
-			if sp.Status == geo.StatusProposed && s.JoinsNetwork(j) && (sp.From == j || sp.To == j) {
-				pass(SplicePoint{ID: j, Added: true})
-			}
-		}
-		if k == len(juncs)-1 && tapFrom {
+		case built.at[j] && throughHandhole(s, leg, juncs, k):
 			pass(SplicePoint{ID: j, Added: true})
 		}
 	}
 	for k, st := range leg.Steps {
 		atJunction(k)
 		sp, _ := s.Net.Span(st.SpanID)
-		var hh []float64 // metres into the span in travel order
-		for _, m := range runHH[st.SpanID] {
+		offs := slices.Clone(built.along[st.SpanID]) // metres from the span's from end
+		slices.Sort(offs)
+		if st.Reverse {
+			slices.Reverse(offs)
+		}
+		hh := make([]float64, len(offs)) // metres into the span in travel order
+		for i, m := range offs {
 			if st.Reverse {
 				m = sp.LengthM - m
 			}
-			hh = append(hh, m)
+			hh[i] = m
 		}
-		slices.Sort(hh)
 		start := at
 		spans = append(spans, spanOnChannel{span: &sp, reverse: st.Reverse, startM: start, loopsAt: hh})
 		for i, m := range hh {
 			at = start + m + float64(i)*d.SlackLoopStructureM
-			off := m
-			if st.Reverse {
-				off = sp.LengthM - m
-			}
-			pass(SplicePoint{Span: sp.ID, AtM: off, Added: true})
+			pass(SplicePoint{Span: sp.ID, AtM: offs[i], Added: true})
 		}
 		at = start + sp.LengthM + float64(len(hh))*d.SlackLoopStructureM
 	}
@@ -236,6 +237,27 @@ func passesOf(s *site.Site, d plan.Design, leg *Leg, runHH map[string][]float64)
 		atJunction(len(juncs) - 1)
 	}
 	return out, spans
+}
+
+// throughHandhole reports whether the leg's cable goes through a handhole built at juncs[k]
+// (passesOf): unless it only passes there on aerial spans, overhead, with no lateral of its
+// own tapping there, no turn there and no new span of its own joining the network there.
+func throughHandhole(s *site.Site, leg *Leg, juncs []string, k int) bool {
+	if k == 0 || k == len(juncs)-1 || slices.Contains(leg.Turns, juncs[k]) {
+		return true // a leg's end: its lateral taps there, or it ends in the handhole
+	}
+	for _, q := range []int{k - 1, k} { // the spans ending and starting here
+		sp, ok := s.Net.Span(leg.Steps[q].SpanID)
+		if ok && (sp.Type != geo.TypeAerial || (sp.Status == geo.StatusProposed && s.JoinsNetwork(juncs[k]))) {
+			return true
+		}
+	}
+	return false
+}
+
+// Passes reports whether the takeoff's structures passed hold the one at junction j (by its ID).
+func (t CableTakeoff) Passes(j string) bool {
+	return slices.ContainsFunc(t.Passed, func(p SplicePoint) bool { return p.ID == j && p.Span == "" })
 }
 
 // spanOnChannel is a span of a leg's route where it lies along the channel: from startM, in
