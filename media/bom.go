@@ -62,7 +62,8 @@ type BOMLine struct {
 	Unit     string // UnitM, UnitEach or UnitHour
 	Price    PriceKey
 	// Labour only: the work billed, in WorkUnit (the quantity's unit), and the book's rate
-	// in WorkUnit per hour; see Describe.
+	// in WorkUnit per hour (its key Rate); see Describe.
+	Rate        PriceKey
 	Work        float64
 	WorkUnit    string
 	RatePerHour float64
@@ -209,7 +210,7 @@ func (p *PriceBook) Bill(qs []Quantity) (*BOM, error) {
 		case k.rate.Item != "":
 			rate, _ := p.Rate(k.rate)
 			hundredths = int64(math.Ceil(amount/rate*100 - 1e-6))
-			line.Unit, line.Work, line.WorkUnit, line.RatePerHour = UnitHour, amount, k.unit, rate
+			line.Unit, line.Work, line.WorkUnit, line.RatePerHour, line.Rate = UnitHour, amount, k.unit, rate, k.rate
 		case k.unit == UnitEach:
 			hundredths = 100 * int64(math.Ceil(amount-1e-9))
 		default:
@@ -283,7 +284,7 @@ func (b *BOM) NotPricedKeys() []string {
 
 // percentItems adds a line for each bid item priced as a percentage, after the other lines:
 // one unit at its percentage of the subtotal of its categories (rounded with ApplyBP), the
-// base named in the item's words.
+// base's categories named in the item's words.
 func (b *BOM) percentItems(items []BidItem) {
 	for _, it := range items {
 		if it.Basis != BasisPercentOf {
@@ -302,7 +303,10 @@ func (b *BOM) percentItems(items []BidItem) {
 		b.Lines = append(b.Lines, BOMLine{Category: CategoryBidItems, Unit: UnitEach, Quantity: 1, UnitCents: c, ExtendedCents: c,
 			Price: PriceKey{Item: PriceBidItem, Name: it.ID}, PercentBP: it.PercentBP, PercentOf: it.Of,
 			From: []string{"categories " + strings.Join(it.Of, ", ")}, // what the percentage is of
-			Item: fmt.Sprintf("%s, %s %% of %s %s", it.Description, strconv.FormatFloat(float64(it.PercentBP)/100, 'f', -1, 64), strings.Join(it.Of, " + "), FormatCents(base))})
+			// The words name the base, not its amount: a workbook prices the line by a live
+			// formula over those categories, which a figure in the text would contradict
+			// once a price is changed there.
+			Item: fmt.Sprintf("%s, %s %% of %s", it.Description, strconv.FormatFloat(float64(it.PercentBP)/100, 'f', -1, 64), strings.Join(it.Of, " + "))})
 	}
 }
 
@@ -445,6 +449,18 @@ func (l BOMLine) Describe(length func(m float64) string) string {
 		return length(x)
 	}
 	return fmt.Sprintf("%s: %s at %s per hour", l.Item, amount(l.Work), amount(l.RatePerHour))
+}
+
+// PriceKeys is where the line's price comes from in the price book, as a bid estimator
+// traces a line to its source: the key's path ("cable_per_m.os2.osp-loose-tube.24",
+// "bid_items[id mobilisation]"), and for labour by the hour the hourly rate's and the
+// production rate's, "labour.hourly_rate / labour.pull_m_per_hour.duct" (hours are the work
+// over the production rate).
+func (l BOMLine) PriceKeys() string {
+	if l.Rate.Item != "" {
+		return l.Price.Path() + " / " + l.Rate.Path()
+	}
+	return l.Price.Path()
 }
 
 // keyLess orders price keys by item, medium, construction, name and count, as Keys does.

@@ -34,6 +34,6 @@ func ExamplePriceBook_Bill() {
 	// material cable os2 osp-loose-tube, 24 strands                412.00 m    ×    2.31 =   951.72
 	// labour   pull cable in duct: 412.0 m at 60.0 m per hour        6.87 h    ×   92.00 =   632.04
 	// optics   transceiver 10GBASE-LR                                2.00 each ×   45.00 =    90.00
-	// bid items project management, 4 % of material + labour + construction + optics 1673.76    1.00 each ×   66.95 =    66.95
+	// bid items project management, 4 % of material + labour + construction + optics    1.00 each ×   66.95 =    66.95
 	// subtotal 1740.71 total 2199.19 USD
 }

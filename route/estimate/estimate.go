@@ -354,7 +354,7 @@ func Build(ctx context.Context, in Input) (*Estimate, error) {
 		}
 		for k, sp := range l.Cable.Splices {
 			if sp.NoStructure {
-				e.Warnings = append(e.Warnings, fmt.Sprintf("%s %s: mid-span splice %d of %d has no maintenance hole or handhole within its reel's reach (%s); build a splice point there (a handhole, or a closure on an aerial span's strand), not billed",
+				e.Warnings = append(e.Warnings, fmt.Sprintf("%s %s: mid-span splice %d of %d has no maintenance hole or handhole within its reel's reach (%s); build a splice point there (a handhole, or a closure on an aerial span's strand): the bill's \""+SplicePointItem+"\" line, at splice_point_each",
 					l.Link.ID, l.Name, k+1, len(l.Cable.Splices), sp.Text(MetresText)))
 			}
 		}
@@ -1190,6 +1190,30 @@ func (c *Construction) assumedWarning() string {
 		c.AssumedSurface, strings.Join(what, " and "), m)
 }
 
+// PatchCordItem is the bill item of the patch cords of leg l, one at each end from its panel to
+// the equipment: "patch cord os2, duplex" for an application over two fibres, "patch cord
+// om4, 8-fibre array" for parallel optics (its application's fibres, media.Application
+// .Strands), "patch cord cat6a" for copper. One price per medium prices either
+// (patch_cords_each). The connector (LC, MPO) is the equipment's, which the catalog does not
+// name.
+func PatchCordItem(cat *media.Catalog, l *routing.Leg) string {
+	item := "patch cord " + l.Medium
+	a := cat.Application(l.Application)
+	m := cat.Medium(l.Medium)
+	switch {
+	case a == nil || m == nil || !m.Fibre():
+	case a.Strands == 2:
+		item += ", duplex"
+	default:
+		item += fmt.Sprintf(", %d-fibre array", a.Strands)
+	}
+	return item
+}
+
+// SplicePointItem is the bill item of a splice point built where a mid-span splice has no
+// maintenance hole or handhole within its reel's reach (routing.SplicePoint.NoStructure).
+const SplicePointItem = "splice point to build, mid-span splice with no structure within reach"
+
 // legItems lists what one feasible leg puts on the bill of materials: its cables, entrance
 // transitions, terminations, tests, patch cords, transceivers, reel joins, and the
 // route-dependent items of its spans, ends and structure loops (package items), each for all its
@@ -1229,7 +1253,7 @@ func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg) []
 		work("terminate copper cables", media.UnitEach, ends, media.PriceKey{Item: media.RateTermination})
 		work("certify copper channels", media.UnitEach, float64(t.Terminated), media.PriceKey{Item: media.RateLossTest})
 	}
-	add(media.CategoryMaterial, "patch cord "+l.Medium, media.UnitEach, 2, media.PriceKey{Item: media.PricePatchCord, Medium: l.Medium})
+	add(media.CategoryMaterial, PatchCordItem(eng.Catalog(), l), media.UnitEach, 2, media.PriceKey{Item: media.PricePatchCord, Medium: l.Medium})
 	if a := eng.Catalog().Application(l.Application); a != nil {
 		add(media.CategoryOptics, "transceiver "+a.Transceiver, media.UnitEach, 2, media.PriceKey{Item: media.PriceTransceiver, Name: a.Transceiver})
 	}
@@ -1301,7 +1325,7 @@ func (r *run) quantities() {
 	for _, c := range e.Buildings {
 		first := len(e.Quantities)
 		for _, size := range slices.Sorted(maps.Keys(c.AdapterPanels)) {
-			add(media.CategoryMaterial, fmt.Sprintf("adapter panel, %d ports", size), media.UnitEach, float64(c.AdapterPanels[size]), media.PriceKey{Item: media.PriceAdapterPanel, Count: size})
+			add(media.CategoryMaterial, fmt.Sprintf("adapter panel, %d ports, one fibre each", size), media.UnitEach, float64(c.AdapterPanels[size]), media.PriceKey{Item: media.PriceAdapterPanel, Count: size})
 		}
 		for _, size := range slices.Sorted(maps.Keys(c.Enclosures)) {
 			add(media.CategoryMaterial, fmt.Sprintf("fibre enclosure, %d ports", size), media.UnitEach, float64(c.Enclosures[size]), media.PriceKey{Item: media.PriceEnclosure, Count: size})
@@ -1391,6 +1415,27 @@ func (r *run) quantities() {
 	}
 	e.Quantities = append(e.Quantities, media.Quantity{Category: media.CategoryConstruction, Item: "handhole for an added pull point",
 		Unit: media.UnitEach, Amount: float64(e.AddedPullPoints), Price: media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole}, From: pulled})
+	// A join no structure within its reel's reach takes needs a splice point built there
+	// (routing.SplicePoint.NoStructure), one a place, serving every cable of every leg that
+	// joins there (legs sharing a route and reel lengths join at the same places): priced at
+	// splice_point_each, or listed not priced (media.PriceBook.NotPriced), so
+	// that the total and summary.json's not_priced say they are left out. Like the added pull
+	// points, not in any leg's cost.
+	places, joined := map[string]bool{}, []string(nil)
+	for i := range r.Legs {
+		l := &r.Legs[i]
+		if !l.Feasible {
+			continue
+		}
+		for _, sp := range l.Cable.Splices {
+			if sp.NoStructure {
+				places[sp.Text(MetresText)] = true
+				joined = append(joined, fromLeg(l))
+			}
+		}
+	}
+	e.Quantities = append(e.Quantities, media.Quantity{Category: media.CategoryConstruction, Item: SplicePointItem,
+		Unit: media.UnitEach, Amount: float64(len(places)), Price: media.PriceKey{Item: media.PriceSplicePoint}, From: joined})
 	if len(p.BidItems) > 0 {
 		e.Bases = r.bidBases()
 		for _, q := range p.BidQuantities(e.Bases) {

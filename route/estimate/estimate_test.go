@@ -23,6 +23,7 @@ import (
 	"spanwright/route/items"
 	"spanwright/route/output"
 	"spanwright/route/plan"
+	"spanwright/route/routing"
 )
 
 // TestPullTensionByHand checks the pulling plan of a simple route against the textbook
@@ -372,7 +373,7 @@ func TestCopperTakeoff(t *testing.T) {
 	cat := r.Engine.Catalog()
 	k := cat.Medium("cat6a").Construction("outdoor")
 	leg.Medium, leg.Construction, leg.Application = "cat6a", "outdoor", "1000BASE-T"
-	leg.Cable.Fit(cat, media.Choice{Medium: "cat6a", Construction: "outdoor", Strands: (leg.StrandsCable + 1) / 2}, leg.RiserM, 0)
+	leg.Cable.Fit(cat, media.Choice{Medium: "cat6a", Construction: "outdoor", Strands: (leg.StrandsCable + 1) / 2}, leg.RiserM, 0, 0)
 	if leg.Cable.Cables != (leg.StrandsCable+1)/2 || leg.Cable.Size != k.Sizes[0] {
 		t.Fatalf("copper fit: %+v", leg.Cable)
 	}
@@ -665,9 +666,10 @@ func TestEntranceTransition(t *testing.T) {
 		t.Fatalf("with it: %s + %q (%s), want osp-loose-tube spliced to ofnr-riser", lt.Construction, lt.Inside, lt.Choice)
 	}
 	c := lt.Cable
-	if want := math.Ceil((80 + c.EndSlackM) * 1.05); c.InsideLengthM != want || c.LengthM != lp.Cable.LengthM {
-		t.Errorf("inside cable %.0f m of %.0f m bought, want %.0f of %.0f (risers 2 × 40 m and the service coils, 5 %% waste)",
-			c.InsideLengthM, c.LengthM, want, lp.Cable.LengthM)
+	// Each end's piece is cut on its own: its 40 m riser and service coil, 5 % waste, whole metres.
+	if want := math.Ceil((40 + c.EndSlackM/2) * 1.05); c.InsideToM != want || c.InsideFromM != want || c.InsideLengthM != 2*want || c.LengthM != lp.Cable.LengthM {
+		t.Errorf("inside cable %.0f + %.0f = %.0f m of %.0f m bought, want %.0f at each end of %.0f (risers 2 × 40 m and the service coils, 5 %% waste)",
+			c.InsideToM, c.InsideFromM, c.InsideLengthM, c.LengthM, want, lp.Cable.LengthM)
 	}
 	for _, nm := range []int{1310} {
 		a, _ := lp.LossAt(nm)
@@ -995,5 +997,27 @@ func TestLateralCarriesDuctAtHub(t *testing.T) {
 	}
 	if got, want := p.SpansText(), "E lateral of "+leg.EntranceFrom; got != want {
 		t.Errorf("pull runs along %q, want %q", got, want)
+	}
+}
+
+// TestPatchCordItem: the bill names a patch cord by what it carries, so that an estimator
+// buys the right one: duplex for an application over two fibres (10GBASE-LR, IEEE 802.3
+// Clause 52), an 8-fibre array cord for parallel optics over eight (40GBASE-SR4, Clause 86),
+// no fibre count for copper (as the catalog gives the applications' fibres).
+func TestPatchCordItem(t *testing.T) {
+	t.Parallel()
+	r := testplan.DemoResult(t)
+	cat := r.Engine.Catalog()
+	for _, c := range []struct{ medium, app, want string }{
+		{"os2", "10GBASE-LR", "patch cord os2, duplex"},
+		{"om4", "40GBASE-SR4", "patch cord om4, 8-fibre array"},
+		{"cat6a", "10GBASE-T", "patch cord cat6a"},
+	} {
+		if got := estimate.PatchCordItem(cat, &routing.Leg{Medium: c.medium, Application: c.app}); got != c.want {
+			t.Errorf("%s %s: %q, want %q", c.medium, c.app, got, c.want)
+		}
+	}
+	if q := testplan.BOMQty(r.Estimate.BOM, "patch cord os2, duplex"); q == 0 {
+		t.Error("the demo bills no duplex os2 patch cord")
 	}
 }

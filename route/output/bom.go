@@ -47,23 +47,22 @@ func bomUnit(opt WriteOptions, l media.BOMLine) (unit string, qty, unitPrice flo
 	return unit, qty, unitPrice
 }
 
+// perFootDecimals is how many decimals a price per foot shows, in bom.csv as in bom.xlsx's
+// number format: a tenth of a cent a foot, as cable is quoted. Common practice, no published
+// source.
+const perFootDecimals = 4
+
 // perFoot writes the price per foot of a line of extendedCents over shownFt feet (as the row
-// shows them) with six decimals, or more, up to twelve, until shownFt × the price written is
-// the extended price to the cent: on a line of tens of thousands of feet six decimals can
-// leave it a cent out. Without feet it writes price.
+// shows them), to perFootDecimals; without feet it writes price. The extended price stays
+// the metric line's (the book prices by the metre), so that the totals are the same in
+// either units: shownFt × the price written is within half a unit of its last decimal per
+// foot of it (1.87 on a 37,313 ft line), as bom.xlsx shows it (its cell keeps the
+// unrounded price, so that its formula gives the extended price to the cent).
 func perFoot(extendedCents int64, shownFt, price float64) string {
 	if shownFt <= 0 {
-		return strconv.FormatFloat(price, 'f', 6, 64)
+		return strconv.FormatFloat(price, 'f', perFootDecimals, 64)
 	}
-	exact := float64(extendedCents) / 100 / shownFt
-	var text string
-	for d := 6; d <= 12; d++ {
-		text = strconv.FormatFloat(exact, 'f', d, 64)
-		if v, _ := strconv.ParseFloat(text, 64); math.Abs(v*shownFt*100-float64(extendedCents)) < 0.5 {
-			break
-		}
-	}
-	return text
+	return strconv.FormatFloat(float64(extendedCents)/100/shownFt, 'f', perFootDecimals, 64)
 }
 
 // qtyDecimals is how many decimals a BOM quantity shows: counts none, lengths one, hours two.
@@ -77,9 +76,10 @@ func qtyDecimals(unit string) int {
 	return 1
 }
 
-// describe is a BOM line's item at the output edge, labour work in feet when imperial.
+// describe is a BOM line's item at the output edge, labour work in feet and diameters in
+// inches when imperial (InUnits).
 func describe(opt WriteOptions, l media.BOMLine) string {
-	return l.Describe(func(m float64) string { return LengthText(opt, m) })
+	return InUnits(opt, l.Describe(func(m float64) string { return LengthText(opt, m) }))
 }
 
 func pct(bp int64) string { return strconv.FormatFloat(float64(bp)/100, 'f', 2, 64) }
@@ -118,19 +118,18 @@ func fitCell(items []string, sep, where string) string {
 // bomCSV renders bom.csv: one row per line (category, item, unit, quantity, unit price,
 // extended price, and last the legs, buildings, spans or junctions it comes from), then a subtotal row per category and for all, contingency, overhead,
 // tax and total, and a note when the total prices only some legs (PricedNoteOf). Money has two decimals; imperial unit prices per foot are the extended price
-// over the feet shown, with six decimals or as many more as the row needs to multiply out.
+// over the feet shown, to perFootDecimals (perFoot).
 func bomCSV(out io.Writer, r *route.Result, opt WriteOptions) error {
 	b := r.Estimate.BOM
 	cur := strings.ToLower(b.Currency)
 	w := escape.NewWriter(out)
-	w.Write([]string{"category", "item", "unit", "quantity", "unit_price_" + cur, "extended_" + cur, "from"})
+	w.Write([]string{"category", "item", "unit", "quantity", "unit_price_" + cur, "extended_" + cur, "from", "price_key"})
 	for _, l := range b.Lines {
 		unit, qty, price := bomUnit(opt, l)
 		q, p := strconv.FormatFloat(qty, 'f', qtyDecimals(unit), 64), media.FormatCents(l.UnitCents)
 		if unit == "ft" {
-			// The price per foot that makes the row multiply out: the extended price (the
-			// metric line's, in whole cents) over the quantity as shown, to six decimals, so
-			// that quantity × unit price is the extended price to the cent.
+			// The price per foot: the extended price (the metric line's, in whole cents) over
+			// the quantity as shown, to perFootDecimals.
 			shown, _ := strconv.ParseFloat(q, 64)
 			p = perFoot(l.ExtendedCents, shown, price)
 		}
@@ -138,24 +137,28 @@ func bomCSV(out io.Writer, r *route.Result, opt WriteOptions) error {
 		if l.NotPriced {
 			p, ext = l.NotPricedText(), ""
 		}
-		w.Write([]string{l.Category, describe(opt, l), unit, q, p, ext, fromText(l)})
+		w.Write([]string{l.Category, describe(opt, l), unit, q, p, ext, fromText(l), l.PriceKeys()})
 	}
 	for _, s := range b.Subtotal {
-		w.Write([]string{rowSubtotal, s.Category, "", "", "", media.FormatCents(s.Cents), ""})
+		w.Write([]string{rowSubtotal, s.Category, "", "", "", media.FormatCents(s.Cents), "", ""})
 	}
-	w.Write([]string{rowSubtotal, "all categories", "", "", "", media.FormatCents(b.SubtotalCents), ""})
+	w.Write([]string{rowSubtotal, "all categories", "", "", "", media.FormatCents(b.SubtotalCents), "", ""})
 	w.Write([]string{rowContingency, pct(b.ContingencyBP) + " % of the subtotal", "%", pct(b.ContingencyBP),
-		media.FormatCents(b.SubtotalCents), media.FormatCents(b.ContingencyCents), ""})
+		media.FormatCents(b.SubtotalCents), media.FormatCents(b.ContingencyCents), "", markupKey + media.MarkupContingency})
 	w.Write([]string{rowOverhead, pct(b.OverheadBP) + " % of the subtotal", "%", pct(b.OverheadBP),
-		media.FormatCents(b.SubtotalCents), media.FormatCents(b.OverheadCents), ""})
+		media.FormatCents(b.SubtotalCents), media.FormatCents(b.OverheadCents), "", markupKey + media.MarkupOverhead})
 	w.Write([]string{rowTax, pct(b.TaxBP) + " % of " + taxedWords(b), "%", pct(b.TaxBP),
-		media.FormatCents(b.TaxBaseCents), media.FormatCents(b.TaxCents), ""})
-	w.Write([]string{rowTotal, b.Label, "", "", "", media.FormatCents(b.TotalCents), ""})
+		media.FormatCents(b.TaxBaseCents), media.FormatCents(b.TaxCents), "", markupKey + "tax"})
+	w.Write([]string{rowTotal, b.Label, "", "", "", media.FormatCents(b.TotalCents), "", ""})
 	if note := PricedNoteOf(r); note != "" {
-		w.Write([]string{rowNote, note, "", "", "", "", ""})
+		w.Write([]string{rowNote, note, "", "", "", "", "", ""})
 	}
 	return w.Flush()
 }
+
+// markupKey begins the price-book key of a markup row (bom.csv's and the bill sheet's price
+// key): markups_percent.contingency, .overhead and .tax.
+const markupKey = "markups_percent."
 
 // money is an amount in integer cents in currency units, as a workbook's money cells hold it.
 func money(cents int64) float64 { return float64(cents) / 100 }
@@ -215,11 +218,16 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 		workbook.Column{Name: "model cost", Unit: cur}, workbook.Column{Name: "feasible"}, workbook.Column{Name: "note"},
 		workbook.Column{Name: "from entrance"}, workbook.Column{Name: "to entrance"}, workbook.Column{Name: "buildings crossed"},
 		workbook.Column{Name: "turns at added handholes"}, workbook.Column{Name: "reason code"},
-		workbook.Column{Name: "jacket colour"}, workbook.Column{Name: "cable labels"})
+		workbook.Column{Name: "jacket colour"}, workbook.Column{Name: "cable labels"},
+		// The cut of each construction (links.csv's cut_length and inside_ columns): last, so
+		// that no earlier column moves.
+		workbook.Column{Name: "cut length", Unit: u.Length}, workbook.Column{Name: "inside cables"},
+		workbook.Column{Name: "inside cut at to", Unit: u.Length}, workbook.Column{Name: "inside cut at from", Unit: u.Length},
+		workbook.Column{Name: "inside labels"})
 	links.Filter = true
 	bom := wb.AddSheet("bill of materials", workbook.Column{Name: "category"}, workbook.Column{Name: "item"},
 		workbook.Column{Name: "unit"}, workbook.Column{Name: "quantity"}, workbook.Column{Name: "unit price", Unit: cur},
-		workbook.Column{Name: "extended", Unit: cur}, workbook.Column{Name: "from"})
+		workbook.Column{Name: "extended", Unit: cur}, workbook.Column{Name: "from"}, workbook.Column{Name: "price key"})
 	bom.Filter = true
 	pulls := wb.AddSheet("pull sections",
 		workbook.Column{Name: "link"}, workbook.Column{Name: "leg"}, workbook.Column{Name: "pull"},
@@ -274,7 +282,7 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 		unit, qty, price := bomUnit(opt, l)
 		dq, dp := qtyDecimals(unit), 2
 		if unit == "ft" {
-			dp = 4
+			dp = perFootDecimals
 		}
 		unitPrice := workbook.Number(price, dp)
 		if l.PercentOf != nil {
@@ -293,7 +301,7 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 			unitPrice, extended = workbook.Text(l.NotPricedText()), workbook.Blank()
 		}
 		bom.Append(workbook.Text(l.Category), workbook.Text(describe(opt, l)), workbook.Text(unit), workbook.Number(qty, dq),
-			unitPrice, extended, workbook.Text(fromCell(l)))
+			unitPrice, extended, workbook.Text(fromCell(l)), workbook.Text(l.PriceKeys()))
 	}
 	bom.Append()
 	subRow := map[string]int{}
@@ -311,16 +319,17 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 		workbook.Formula(strings.Join(parts, "+"), money(b.SubtotalCents), 2))
 	// A markup row: its percentage, its base (baseCents) and the markup (cents), as Bill
 	// computed them.
-	markup := func(name, what string, bp int64, base string, baseCents, cents int64) int {
+	markup := func(name, what string, bp int64, base string, baseCents, cents int64, key string) int {
 		row := bom.Rows() + 2
 		bom.Append(workbook.Text(name), workbook.Text(what), workbook.Text("%"), workbook.Number(float64(bp)/100, 2),
 			workbook.Formula(base, money(baseCents), 2),
-			workbook.Formula(fmt.Sprintf("ROUND(%s*%s/100,2)", workbook.Ref(3, row), workbook.Ref(4, row)), money(cents), 2))
+			workbook.Formula(fmt.Sprintf("ROUND(%s*%s/100,2)", workbook.Ref(3, row), workbook.Ref(4, row)), money(cents), 2),
+			workbook.Blank(), workbook.Text(markupKey+key))
 		return row
 	}
 	all := workbook.Ref(5, allRow)
-	contRow := markup(rowContingency, "% of the subtotal", b.ContingencyBP, all, b.SubtotalCents, b.ContingencyCents)
-	overRow := markup(rowOverhead, "% of the subtotal", b.OverheadBP, all, b.SubtotalCents, b.OverheadCents)
+	contRow := markup(rowContingency, "% of the subtotal", b.ContingencyBP, all, b.SubtotalCents, b.ContingencyCents, media.MarkupContingency)
+	overRow := markup(rowOverhead, "% of the subtotal", b.OverheadBP, all, b.SubtotalCents, b.OverheadCents, media.MarkupOverhead)
 	cont, over := workbook.Ref(5, contRow), workbook.Ref(5, overRow)
 	taxBase := all + "+" + cont + "+" + over
 	if !taxesAll(b) {
@@ -341,7 +350,7 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 			taxBase = strings.Join(refs, "+")
 		}
 	}
-	taxRow := markup(rowTax, "% of "+taxedWords(b), b.TaxBP, taxBase, b.TaxBaseCents, b.TaxCents)
+	taxRow := markup(rowTax, "% of "+taxedWords(b), b.TaxBP, taxBase, b.TaxBaseCents, b.TaxCents, "tax")
 	totalRow := bom.Rows() + 2
 	bom.Append(workbook.Text(rowTotal), workbook.Text(b.Label), workbook.Blank(), workbook.Blank(), workbook.Blank(),
 		workbook.Formula(all+"+"+cont+"+"+over+"+"+workbook.Ref(5, taxRow), money(b.TotalCents), 2))
@@ -420,7 +429,7 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 		if !l.Feasible {
 			cells = append(cells, make([]workbook.Cell, 18)...)
 			cells = append(cells, workbook.Cents(l.Cost.TotalCents()), workbook.Bool(false), workbook.Text(InUnits(opt, l.Reason)))
-			links.Append(append(append(cells, passage(r, l)...), workbook.Blank(), workbook.Blank())...)
+			links.Append(append(append(cells, passage(r, l)...), make([]workbook.Cell, 7)...)...)
 			continue
 		}
 		hi := hiOf[i]
@@ -429,10 +438,17 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 			workbook.Int(int64(l.StrandsCable)), workbook.Int(int64(t.Cables)), workbook.Number(u.MM(t.Size.ODMM), 1),
 			workbook.Number(u.M(l.RouteM), 1), workbook.Number(u.M(l.RiserM), 1), workbook.Number(u.M(t.SlackM()), 1),
 			workbook.Int(int64(t.Structures)), workbook.Number(u.M(t.LengthM), 1), workbook.Int(int64(t.Reels)),
-			workbook.Int(int64(t.Joins)), workbook.Text(ReelsText(opt, t.ReelsM)), workbook.Text(SplicesText(opt, t.Splices)),
+			workbook.Int(int64(t.Joins)), workbook.Text(ReelsText(opt, OutsideReelsM(t))), workbook.Text(SplicesText(opt, t.Splices)),
 			workbook.Int(int64(pullsOf[i])), workbook.Number(u.N(hi), 1), workbook.Number(u.N(rated), 1),
 			workbook.Cents(l.Cost.TotalCents()), workbook.Bool(true), workbook.Text(InUnits(opt, l.Reason)))
-		links.Append(append(append(cells, passage(r, l)...), workbook.Text(JacketText(r, l)), workbook.Text(strings.Join(CableLabels(r, i), " ")))...)
+		inside := []workbook.Cell{workbook.Blank(), workbook.Blank(), workbook.Blank(), workbook.Blank()}
+		if l.Inside != "" {
+			inside = []workbook.Cell{workbook.Int(int64(t.InsideCables)), workbook.Number(u.M(t.InsideToM), 1), workbook.Number(u.M(t.InsideFromM), 1),
+				workbook.Text(strings.Join(InsideLabels(r, i), " "))}
+		}
+		cells = append(append(cells, passage(r, l)...), workbook.Text(JacketText(r, l)), workbook.Text(strings.Join(CableLabels(r, i), " ")),
+			workbook.Number(u.M(t.OutsideLengthM()), 1))
+		links.Append(append(cells, inside...)...)
 	}
 	for _, p := range r.Estimate.Pulls {
 		l := &r.Legs[p.Leg]

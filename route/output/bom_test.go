@@ -32,7 +32,7 @@ func TestBOMOutputsAddUp(t *testing.T) {
 		t.Fatal(err)
 	}
 	rows := testplan.ReadCSV(t, testplan.FileOf(t, files, "bom.csv"))
-	if got := strings.Join(rows[0], ","); got != "category,item,unit,quantity,unit_price_usd,extended_usd,from" { // "from" last, so no earlier column moves
+	if got := strings.Join(rows[0], ","); got != "category,item,unit,quantity,unit_price_usd,extended_usd,from,price_key" { // "from", then "price_key", last, so no earlier column moves
 		t.Fatalf("header: %s", got)
 	}
 	cents := func(s string) int64 {
@@ -591,5 +591,49 @@ func TestPullUnits(t *testing.T) {
 	si := "tension 3000.0 N over rating 2670.0 N; sidewall pressure 1800.0 N/m over 1460.0 N/m; length 160.2 m over 150.0 m between pull points"
 	if got := install.Why(over, PullUnits(WriteOptions{})); got != si {
 		t.Errorf("metric: got %q, want %q", got, si)
+	}
+}
+
+// TestBOMPriceKeys: every priced line of bom.csv names where its price comes from in the
+// price book (price_key: the key's path, for labour by the hour the hourly rate's and the
+// production rate's), so that an estimator can trace a line to the book (tester 5's finding
+// 17; common practice, no published source: a bid's unit prices are traced to their source).
+func TestBOMPriceKeys(t *testing.T) {
+	t.Parallel()
+	r := testplan.DemoResult(t)
+	files, err := Files(context.Background(), r, WriteOptions{SkipWorkbook: true, SkipGeoPackage: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	book := map[string]bool{}
+	for _, k := range r.Engine.PriceBook().Keys() {
+		book[k.Path()] = true
+	}
+	for _, it := range r.Engine.PriceBook().BidItems { // a percentage has no price of its own
+		book[media.PriceKey{Item: media.PriceBidItem, Name: it.ID}.Path()] = true
+	}
+	rows := testplan.ReadCSV(t, testplan.FileOf(t, files, "bom.csv"))
+	key := slices.Index(rows[0], "price_key")
+	if key != len(rows[0])-1 || rows[0][key-1] != "from" {
+		t.Fatalf("bom.csv head %q: want price_key last, after from", rows[0])
+	}
+	lines := r.Estimate.BOM.Lines
+	for i, l := range lines {
+		row := rows[i+1]
+		parts := strings.Split(row[key], " / ")
+		if (l.Unit == "h") != (len(parts) == 2) {
+			t.Errorf("%s: price key %q", l.Item, row[key])
+		}
+		for _, p := range parts {
+			if !book[p] {
+				t.Errorf("%s: price key %q is not a key of the book", l.Item, p)
+			}
+		}
+	}
+	for _, row := range rows[len(lines)+1:] {
+		want := map[string]string{"contingency": "markups_percent.contingency", "overhead": "markups_percent.overhead", "tax": "markups_percent.tax"}[row[0]]
+		if row[key] != want {
+			t.Errorf("bom.csv %s row: price key %q, want %q", row[0], row[key], want)
+		}
 	}
 }

@@ -8,10 +8,13 @@ import (
 	"os/exec"
 	"path/filepath"
 	"slices"
+	"strconv"
 	"strings"
 	"testing"
 
+	"spanwright/media"
 	"spanwright/route"
+	"spanwright/route/estimate"
 	"spanwright/route/internal/testplan"
 	"spanwright/route/internal/testsite"
 )
@@ -250,5 +253,69 @@ for name in ("bill of materials", "summary"):
 	}
 	if want := "total | " + note + "\ntotal | " + note + "\n"; string(out) != want {
 		t.Errorf("bom.xlsx: got\n%s\nwant\n%s", out, want)
+	}
+}
+
+// TestSplicePointsNotPriced plans the demo with reels of 400 m (tester 6's finding 6): some
+// mid-span splices have no maintenance hole or handhole within their reel's reach, and each
+// such place needs a splice point built (a handhole, or a closure on an aerial strand). With
+// the demo book, which has no splice_point_each, the bill lists them with their count and no
+// price, and summary.json's not_priced and the total's note name the key; with the price, the
+// line is priced at it. One splice point per place, whatever the legs and cables that join
+// there (common practice, no published source: one structure serves every cable through it).
+func TestSplicePointsNotPriced(t *testing.T) {
+	t.Parallel()
+	s, p := testsite.Demo(t)
+	q := *p
+	q.Design.ReelM = 400
+	r := testplan.SolvePlan(t, s, &q)
+	places := map[string]bool{}
+	for _, l := range r.Legs {
+		for _, sp := range l.Cable.Splices {
+			if l.Feasible && sp.NoStructure {
+				places[sp.Text(func(m float64) string { return strconv.FormatFloat(m, 'f', 1, 64) })] = true
+			}
+		}
+	}
+	if len(places) == 0 {
+		t.Fatal("no mid-span splice without a structure: nothing to test")
+	}
+	line, ok := testplan.BOMLine(r.Estimate.BOM, estimate.SplicePointItem)
+	if !ok || line.Quantity != float64(len(places)) || !line.NotPriced || line.ExtendedCents != 0 {
+		t.Errorf("splice point line %+v (found %v), want %d not priced", line, ok, len(places))
+	}
+	sum := Summarize(r)
+	if !slices.Contains(sum.NotPriced, "splice_point_each") || !strings.Contains(sum.NotPricedNote(), "splice_point_each") {
+		t.Errorf("summary not_priced %q, note %q: want splice_point_each", sum.NotPriced, sum.NotPricedNote())
+	}
+
+	data, err := os.ReadFile(filepath.Join("..", "..", "media", "prices-demo.yaml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	path := filepath.Join(t.TempDir(), "prices.yaml")
+	if err := os.WriteFile(path, append(data, "splice_point_each: 2400.00\n"...), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	q.Prices = path
+	r2 := testplan.SolvePlan(t, s, &q)
+	line, ok = testplan.BOMLine(r2.Estimate.BOM, estimate.SplicePointItem)
+	if !ok || line.NotPriced || line.ExtendedCents != int64(len(places))*240000 {
+		t.Errorf("priced: splice point line %+v (found %v), want %d at 2400.00", line, ok, len(places))
+	}
+	if got := Summarize(r2).NotPriced; slices.Contains(got, "splice_point_each") {
+		t.Errorf("priced: not_priced %q", got)
+	}
+	// The other lines (a percentage bid item aside, whose base grows with it) stay as they were.
+	lines := func(b *media.BOM) (c int64) {
+		for _, l := range b.Lines {
+			if l.Category != media.CategoryBidItems {
+				c += l.ExtendedCents
+			}
+		}
+		return c
+	}
+	if d := lines(r2.Estimate.BOM) - lines(r.Estimate.BOM); d != int64(len(places))*240000 {
+		t.Errorf("priced: lines up by %d cents, want %d", d, int64(len(places))*240000)
 	}
 }

@@ -331,12 +331,32 @@ func linksCSV(out io.Writer, r *route.Result, opt WriteOptions) error {
 // metresText finds a length in metres in a text of the rules ("a 247.41 m channel").
 var metresText = regexp.MustCompile(`(\d+(?:\.\d+)?) m\b`)
 
-// InUnits writes the lengths in metres of a reason from the rule engine in the run's units:
-// in feet, with as many decimals, when imperial (1 ft = 0.3048 m exactly).
+// mmText finds a diameter in millimetres, or two ("innerduct 33/27 mm": outside and inside).
+var mmText = regexp.MustCompile(`(\d+(?:\.\d+)?)(?:/(\d+(?:\.\d+)?))? mm\b`)
+
+// InUnits writes the lengths in metres of a reason from the rule engine or an item of the
+// bill in the run's units: in feet, with as many decimals, when imperial (1 ft = 0.3048 m
+// exactly); and diameters in millimetres in inches, with two decimals ("innerduct 1.30/1.06
+// in").
 func InUnits(opt WriteOptions, text string) string {
 	if !opt.imperial() {
 		return text
 	}
+	text = mmText.ReplaceAllStringFunc(text, func(m string) string {
+		parts := mmText.FindStringSubmatch(m)
+		var out []string
+		for _, num := range parts[1:] {
+			if num == "" {
+				continue
+			}
+			v, err := strconv.ParseFloat(num, 64)
+			if err != nil {
+				return m
+			}
+			out = append(out, strconv.FormatFloat(UnitsOf(opt).MM(v), 'f', 2, 64))
+		}
+		return strings.Join(out, "/") + " in"
+	})
 	return metresText.ReplaceAllStringFunc(text, func(m string) string {
 		num := strings.TrimSuffix(m, " m")
 		v, err := strconv.ParseFloat(num, 64)

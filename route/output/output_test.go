@@ -88,11 +88,13 @@ func TestLinksCSVPayloads(t *testing.T) {
 	}
 }
 
-// TestImperialBOMMultipliesOut: in bom.csv with --units imperial, every line's quantity in
-// feet times its unit price per foot is its extended price to the cent (an estimator checks
-// a bill this way; with the price per foot rounded to four decimals a 17,185 ft line missed
-// by 0.86).
-func TestImperialBOMMultipliesOut(t *testing.T) {
+// TestImperialBOMUnitPrices: in bom.csv with --units imperial, every line's unit price per
+// foot shows four decimals (a tenth of a cent a foot, as cable is quoted: common practice, no
+// published source; six or seven decimals, 0.9936478, read as noise to an estimator: tester
+// 5's finding 17) and the quantity in feet times it is the extended price (the metric
+// line's, so that the totals agree in either units) within the rounding of that price, half
+// its last decimal per foot.
+func TestImperialBOMUnitPrices(t *testing.T) {
 	t.Parallel()
 	r := testplan.DemoResult(t)
 	var buf bytes.Buffer
@@ -113,7 +115,10 @@ func TestImperialBOMMultipliesOut(t *testing.T) {
 		q, _ := strconv.ParseFloat(row[3], 64)
 		p, _ := strconv.ParseFloat(row[4], 64)
 		x, _ := strconv.ParseFloat(row[5], 64)
-		if math.Abs(q*p-x) > 0.005 {
+		if _, dec, _ := strings.Cut(row[4], "."); len(dec) != 4 {
+			t.Errorf("%s: unit price %s, want four decimals", row[1], row[4])
+		}
+		if math.Abs(q*p-x) > 0.00005*q+0.005 {
 			t.Errorf("%s: %s ft × %s = %.4f, extended %s", row[1], row[3], row[4], q*p, row[5])
 		}
 	}
@@ -226,5 +231,39 @@ func TestSafetyLine(t *testing.T) {
 	r.Cautions = nil
 	if got := lines(&r); len(got) != 0 {
 		t.Errorf("a plan with no caution prints %q", got)
+	}
+}
+
+// TestImperialInnerduct: with --units imperial the bill's innerduct reads in inches, as every
+// other dimension of an imperial run does (1 in = 25.4 mm exactly, NIST SP 811): 33/27 mm is
+// 1.30/1.06 in; no bill line of the imperial bom.csv keeps millimetres.
+func TestImperialInnerduct(t *testing.T) {
+	t.Parallel()
+	s, p := testsite.Demo(t)
+	q := *p
+	q.Design.InnerductODMM, q.Design.InnerductIDMM = 33, 27
+	r := testplan.SolvePlan(t, s, &q)
+	for _, c := range []struct {
+		opt  WriteOptions
+		want string
+	}{{WriteOptions{}, "innerduct 33/27 mm"}, {WriteOptions{Units: UnitsImperial}, "innerduct 1.30/1.06 in"}} {
+		var buf bytes.Buffer
+		if err := bomCSV(&buf, r, c.opt); err != nil {
+			t.Fatal(err)
+		}
+		rows, err := csv.NewReader(&buf).ReadAll()
+		if err != nil {
+			t.Fatal(err)
+		}
+		found := false
+		for _, row := range rows[1:] {
+			found = found || row[1] == c.want
+			if c.opt.Units == UnitsImperial && strings.Contains(row[1], " mm") {
+				t.Errorf("imperial bom.csv: item %q in millimetres", row[1])
+			}
+		}
+		if !found {
+			t.Errorf("%q bom.csv: no item %q", c.opt.Units, c.want)
+		}
 	}
 }

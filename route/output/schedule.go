@@ -1,6 +1,7 @@
 package output
 
 import (
+	"slices"
 	"strconv"
 	"strings"
 
@@ -9,18 +10,27 @@ import (
 )
 
 // scheduleHead names links.csv's last columns, the cable schedule an installer cuts and
-// labels cable by (scheduleText), after reason_code so that no earlier column moves.
+// labels cable by (scheduleText), after reason_code so that no earlier column moves; the
+// inside pieces of an entrance transition last, after cable_label.
 func scheduleHead(opt WriteOptions) []string {
 	cutH, _ := opt.lengthCol("cut_length")
 	slackH, _ := opt.lengthCol("slack_loops")
-	return []string{"cables", cutH, "reels", slackH, "structures_passed", "jacket_colour", "cable_label"}
+	toH, _ := opt.lengthCol("inside_cut_to")
+	fromH, _ := opt.lengthCol("inside_cut_from")
+	return []string{"cables", cutH, "reels", slackH, "structures_passed", "jacket_colour", "cable_label",
+		"inside_cables", toH, fromH, "inside_labels"}
 }
 
 // scheduleText is the cable schedule of leg i of r, as links.csv's last columns: its cables, each
-// cable's cut length (the cable bought, waste included: routing.CableTakeoff.LengthM, bom.xlsx
-// links sheet's "cable bought"), the reels it takes, its slack loops' metres and the
+// cable's cut length (the cable bought of the leg's own construction, waste included:
+// routing.CableTakeoff.OutsideLengthM, which is all of bom.xlsx links sheet's "cable bought"
+// but with an entrance transition), the reels it takes, its slack loops' metres and the
 // structures passed (the takeoff's, as the links sheet), the jacket colour (JacketText) and
-// the cables' labels (CableLabels, separated by spaces). Empty for an infeasible leg.
+// the cables' labels (CableLabels, separated by spaces); then, with an entrance transition
+// (Leg.Inside), the inside cables and the piece each is cut to at the served building (to) and
+// at the cross-connect (from), and their labels (InsideLabels), empty without. A cable's pieces
+// add up to the cable bought: cut length + inside cut to + inside cut from. Empty for an
+// infeasible leg.
 func scheduleText(opt WriteOptions, r *route.Result, i int) []string {
 	l := &r.Legs[i]
 	if !l.Feasible {
@@ -28,8 +38,12 @@ func scheduleText(opt WriteOptions, r *route.Result, i int) []string {
 	}
 	t := l.Cable
 	_, length := opt.lengthCol("")
-	return []string{strconv.Itoa(t.Cables), length(t.LengthM), strconv.Itoa(t.Reels), length(t.SlackM()),
-		strconv.Itoa(t.Structures), JacketText(r, l), strings.Join(CableLabels(r, i), " ")}
+	inside := []string{"", "", "", ""}
+	if l.Inside != "" {
+		inside = []string{strconv.Itoa(t.InsideCables), length(t.InsideToM), length(t.InsideFromM), strings.Join(InsideLabels(r, i), " ")}
+	}
+	return append([]string{strconv.Itoa(t.Cables), length(t.OutsideLengthM()), strconv.Itoa(t.Reels), length(t.SlackM()),
+		strconv.Itoa(t.Structures), JacketText(r, l), strings.Join(CableLabels(r, i), " ")}, inside...)
 }
 
 // JacketText is the jacket colour of a leg's cable as the catalog lists it for its
@@ -69,15 +83,65 @@ func CableLabels(r *route.Result, i int) []string {
 	if !l.Feasible || l.Link == nil {
 		return nil
 	}
+	first := firstCable(r, i)
+	out := make([]string, l.Cable.Cables)
+	for j := range out {
+		out[j] = cableLabel(l, first+j)
+	}
+	return out
+}
+
+// firstCable is the number of the first cable of leg i of r: 1 after the cables of the
+// earlier legs of its link (CableLabels).
+func firstCable(r *route.Result, i int) int {
+	l := &r.Legs[i]
 	first := 1
 	for k := i - 1; k >= 0 && r.Legs[k].Link != nil && r.Legs[k].Link.ID == l.Link.ID; k-- {
 		if r.Legs[k].Feasible {
 			first += r.Legs[k].Cable.Cables
 		}
 	}
-	out := make([]string, l.Cable.Cables)
-	for j := range out {
-		out[j] = l.Link.From + "/" + l.Link.To + "-" + strconv.Itoa(first+j)
+	return first
+}
+
+// cableLabel is the label of cable n of leg l's link, "ADM/LIB-1".
+func cableLabel(l *routing.Leg, n int) string {
+	return l.Link.From + "/" + l.Link.To + "-" + strconv.Itoa(n)
+}
+
+// InsideLabels are the labels of the inside pieces of leg i of r with an entrance transition
+// (Leg.Inside), nil without: each inside cable's piece at the served building, then each one's
+// at the cross-connect, labelled as the cable it is spliced to (CableLabels, numbered alike
+// from the leg's first cable, inside cables where their count differs) and ":" with the
+// building it is in, "ADM/LIB-1:LIB" and "ADM/LIB-1:ADM", so that the three pieces of one
+// channel read as one cable. Common practice, no published source: ANSI/TIA-606 labels a
+// cable, not the pieces a transition splice makes of it (from memory).
+func InsideLabels(r *route.Result, i int) []string {
+	l := &r.Legs[i]
+	if !l.Feasible || l.Link == nil || l.Inside == "" {
+		return nil
 	}
+	first := firstCable(r, i)
+	out := make([]string, 0, 2*l.Cable.InsideCables)
+	for _, b := range []string{l.Link.To, l.Link.From} {
+		for j := 0; j < l.Cable.InsideCables; j++ {
+			out = append(out, cableLabel(l, first+j)+":"+b)
+		}
+	}
+	return out
+}
+
+// OutsideReelsM is the lengths cut from the reels of a leg's own construction (t.ReelsM),
+// in metres, in travel order from the served building: with an entrance transition the
+// inside pieces are other cable, so the first reel gives up the piece at the served building
+// (InsideToM) and the last the piece at the cross-connect (InsideFromM); they sum to
+// t.OutsideLengthM(), links.csv's cut_length. Without a transition, t.ReelsM.
+func OutsideReelsM(t routing.CableTakeoff) []float64 {
+	if t.InsideLengthM == 0 || len(t.ReelsM) == 0 {
+		return t.ReelsM
+	}
+	out := slices.Clone(t.ReelsM)
+	out[0] = max(0, out[0]-t.InsideToM)
+	out[len(out)-1] = max(0, out[len(out)-1]-t.InsideFromM)
 	return out
 }

@@ -2,12 +2,17 @@ package output
 
 import (
 	"context"
+	"maps"
+	"math"
 	"slices"
 	"strconv"
 	"strings"
 	"testing"
 
+	"spanwright/media"
 	"spanwright/route/internal/testplan"
+	"spanwright/route/internal/testsite"
+	"spanwright/route/routing"
 )
 
 // TestScheduleColumns holds links.csv's cable schedule to the workbook's links sheet (the
@@ -32,6 +37,7 @@ func TestScheduleColumns(t *testing.T) {
 		}
 		cables, cut, reels, slack, structs := col("cables"), col("cut_length_"+u), col("reels"), col("slack_loops_"+u), col("structures_passed")
 		jacket, label := col("jacket_colour"), col("cable_label")
+		inCables, inTo, inFrom, inLabels := col("inside_cables"), col("inside_cut_to_"+u), col("inside_cut_from_"+u), col("inside_labels")
 		xl, sheet := linksSheet(t, files)
 		xl.Close()
 		xcol := func(name string) int {
@@ -41,13 +47,19 @@ func TestScheduleColumns(t *testing.T) {
 			}
 			return i
 		}
-		pairs := [][2]int{{cables, xcol("cables")}, {cut, xcol("cable bought (" + u + ")")}, {reels, xcol("reels")},
-			{slack, xcol("slack loops (" + u + ")")}, {structs, xcol("structures passed")}, {jacket, xcol("jacket colour")}, {label, xcol("cable labels")}}
+		pairs := [][2]int{{cables, xcol("cables")}, {cut, xcol("cut length (" + u + ")")}, {reels, xcol("reels")},
+			{slack, xcol("slack loops (" + u + ")")}, {structs, xcol("structures passed")}, {jacket, xcol("jacket colour")}, {label, xcol("cable labels")},
+			{inCables, xcol("inside cables")}, {inTo, xcol("inside cut at to (" + u + ")")}, {inFrom, xcol("inside cut at from (" + u + ")")},
+			{inLabels, xcol("inside labels")}}
+		bought := xcol("cable bought (" + u + ")")
 		seen := map[string]bool{}
 		for i, row := range rows[1:] {
 			l := &r.Legs[i]
 			for _, p := range pairs {
-				a, b := row[p[0]], sheet[i+1][p[1]]
+				a, b := row[p[0]], ""
+				if p[1] < len(sheet[i+1]) { // the sheet's row ends at its last cell that is not blank
+					b = sheet[i+1][p[1]]
+				}
 				if x, err := strconv.ParseFloat(a, 64); err == nil {
 					// The sheet holds the figure unrounded, shown to one decimal.
 					if y, err := strconv.ParseFloat(b, 64); err != nil || x != roundHalfAway(y, 1) {
@@ -59,6 +71,14 @@ func TestScheduleColumns(t *testing.T) {
 			}
 			if !l.Feasible {
 				continue
+			}
+			// A cable's pieces, outside and at each entrance, add up to the cable bought.
+			f := func(s string) float64 { x, _ := strconv.ParseFloat(s, 64); return x }
+			if got, want := f(row[cut])+f(row[inTo])+f(row[inFrom]), f(sheet[i+1][bought]); math.Abs(got-want) > 0.11 {
+				t.Errorf("%s (%s): pieces %s + %s + %s, cable bought %s", l.Label(), u, row[cut], row[inTo], row[inFrom], sheet[i+1][bought])
+			}
+			if (l.Inside != "") != (row[inCables] != "") || (l.Inside != "" && len(strings.Fields(row[inLabels])) != 2*l.Cable.InsideCables) {
+				t.Errorf("%s: inside %q, inside cables %q, labels %q", l.Label(), l.Inside, row[inCables], row[inLabels])
 			}
 			// TIA-598-D premises cable jacket colours: yellow single-mode, aqua OM3 and OM4,
 			// lime green OM5 (as the catalog cites them); outside-plant jackets black.
@@ -80,5 +100,107 @@ func TestScheduleColumns(t *testing.T) {
 				seen[lb] = true
 			}
 		}
+	}
+}
+
+// TestSchedulePiecesAddUpToBill holds links.csv's cable schedule to the bill: for every cable
+// construction and size, the pieces the schedule cuts (cables × cut_length_m of the leg's own
+// construction; with an entrance transition, inside_cables × (inside_cut_to_m +
+// inside_cut_from_m) of the inside one) add up to the bill's cable line, whose sources are
+// exactly the legs the schedule cuts such pieces for, so that a buyer
+// ordering reels by the schedule buys what the bill prices (tester 6's finding 4: a leg of
+// osp-loose-tube spliced to ofnr-riser at both entrances gave one cut length for three
+// pieces). The demo has such legs (TWR-OBS over the direct-buried B-OBS).
+func TestSchedulePiecesAddUpToBill(t *testing.T) {
+	t.Parallel()
+	r := testplan.DemoResult(t)
+	files, err := Files(context.Background(), r, WriteOptions{SkipWorkbook: true, SkipGeoPackage: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	rows := testplan.ReadCSV(t, testplan.FileOf(t, files, "links.csv"))
+	col := func(name string) int { return slices.Index(rows[0], name) }
+	cables, cut, inCables, inTo, inFrom := col("cables"), col("cut_length_m"), col("inside_cables"), col("inside_cut_to_m"), col("inside_cut_from_m")
+	f := func(s string) float64 { x, _ := strconv.ParseFloat(s, 64); return x }
+	cut1 := map[media.PriceKey]float64{}
+	byLeg := map[media.PriceKey]map[string]float64{} // the pieces of each leg, by the bill's "leg L/primary"
+	piece := func(k media.PriceKey, l *routing.Leg, m float64) {
+		cut1[k] += m
+		if byLeg[k] == nil {
+			byLeg[k] = map[string]float64{}
+		}
+		byLeg[k]["leg "+l.Label()] += m
+	}
+	transitions := 0
+	for i, row := range rows[1:] {
+		l := &r.Legs[i]
+		if !l.Feasible {
+			continue
+		}
+		piece(media.PriceKey{Item: media.PriceCable, Medium: l.Medium, Construction: l.Construction, Count: l.Cable.Size.Count}, l, f(row[cables])*f(row[cut]))
+		if l.Inside != "" {
+			transitions++
+			piece(media.PriceKey{Item: media.PriceCable, Medium: l.Medium, Construction: l.Inside, Count: l.Cable.InsideSize.Count}, l, f(row[inCables])*(f(row[inTo])+f(row[inFrom])))
+		}
+	}
+	if transitions == 0 {
+		t.Fatal("the demo has no leg with an entrance transition: nothing to test")
+	}
+	billed := map[media.PriceKey]float64{}
+	for _, ln := range r.Estimate.BOM.Lines {
+		if ln.Price.Item == media.PriceCable {
+			billed[ln.Price] += ln.Quantity
+			// The line's sources are the legs whose pieces are of its construction and size.
+			legs := slices.Sorted(maps.Keys(byLeg[ln.Price]))
+			if !slices.Equal(legs, ln.From) {
+				t.Errorf("%s: the bill's line comes from %q, the schedule cuts it for %q", ln.Item, ln.From, legs)
+			}
+		}
+	}
+	for k, m := range billed {
+		if math.Abs(cut1[k]-m) > 0.05 {
+			t.Errorf("%s: the schedule cuts %.1f m, the bill buys %.1f m", k, cut1[k], m)
+		}
+	}
+	for k, m := range cut1 {
+		if _, ok := billed[k]; !ok && m > 0 {
+			t.Errorf("%s: the schedule cuts %.1f m the bill does not buy", k, m)
+		}
+	}
+}
+
+// TestOutsideReels plans the demo with reels of 400 m, where legs of outside-plant cable
+// spliced to riser cable at the entrances also take mid-span joins: the reel lengths of the
+// links sheet are of the outside cable alone and add up to its cut length (links.csv's
+// cut_length_m), not to the cable bought, whose inside pieces are cut from other reels.
+func TestOutsideReels(t *testing.T) {
+	t.Parallel()
+	s, p := testsite.Demo(t)
+	q := *p
+	q.Design.ReelM = 400
+	r := testplan.SolvePlan(t, s, &q)
+	both := 0
+	for i := range r.Legs {
+		l := &r.Legs[i]
+		if !l.Feasible {
+			continue
+		}
+		reels := OutsideReelsM(l.Cable)
+		sum := 0.0
+		for _, m := range reels {
+			sum += m
+			if m <= 0 {
+				t.Errorf("%s: reel of %.0f m", l.Label(), m)
+			}
+		}
+		if sum != l.Cable.OutsideLengthM() || len(reels) != l.Cable.Reels {
+			t.Errorf("%s: reels %v sum to %.0f m, cut length %.0f m, %d reels", l.Label(), reels, sum, l.Cable.OutsideLengthM(), l.Cable.Reels)
+		}
+		if l.Inside != "" && l.Cable.Joins > 0 {
+			both++
+		}
+	}
+	if both == 0 {
+		t.Fatal("no leg with an entrance transition and mid-span joins: nothing to test")
 	}
 }

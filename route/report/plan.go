@@ -534,7 +534,7 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 		v.Pulls, v.PullsOver, v.PullsListed = pullRows(r, opt)
 		v.PullPoints = e.AddedPullPoints
 		for _, d := range s.CostDrivers {
-			v.Drivers = append(v.Drivers, driverRow{Category: d.Category, Item: d.ItemText(opt.lengthU), Cost: money(d.Cents),
+			v.Drivers = append(v.Drivers, driverRow{Category: d.Category, Item: output.InUnits(output.WriteOptions{Units: opt.Units}, d.ItemText(opt.lengthU)), Cost: money(d.Cents),
 				Pct: strconv.FormatFloat(d.Pct, 'f', 1, 64) + " %"})
 		}
 	}

@@ -10,6 +10,7 @@ import (
 
 	"spanwright/route/escape"
 	"spanwright/route/fileset"
+	"spanwright/route/output"
 	"spanwright/route/sweep"
 )
 
@@ -83,6 +84,7 @@ type sweepView struct {
 	Infeasible int
 	Failed     int
 	Pareto     int
+	Incomplete int // ok scenarios not ranked: their totals leave out items not priced (sweep.Row.Incomplete)
 	Currency   string
 	Cols       []sweepCol
 	Rows       []sweepRow
@@ -125,6 +127,7 @@ func sweepViewOf(c *sweep.Comparison, opt SweepOptions) *sweepView {
 	if cur == "" {
 		cur = "currency units"
 	}
+	lu := output.UnitsOf(output.WriteOptions{Units: c.Units})
 	v.Cols = append(v.Cols, sweepCol{"#", true}, sweepCol{"scenario", false}, sweepCol{"case", false})
 	for _, k := range c.Keys {
 		v.Cols = append(v.Cols, sweepCol{k, false})
@@ -132,7 +135,7 @@ func sweepViewOf(c *sweep.Comparison, opt SweepOptions) *sweepView {
 	v.Cols = append(v.Cols,
 		sweepCol{"status", false}, sweepCol{"total cost (" + cur + ")", true}, sweepCol{"budget", true},
 		sweepCol{"over budget", true}, sweepCol{"infeasible legs", true}, sweepCol{"worst margin (dB)", true},
-		sweepCol{"new trench (m)", true}, sweepCol{"diverse links", true}, sweepCol{"of them sharing a single point of failure", true}, sweepCol{"lacking diverse", true},
+		sweepCol{"new trench (" + lu.Length + ")", true}, sweepCol{"diverse links", true}, sweepCol{"of them sharing a single point of failure", true}, sweepCol{"lacking diverse", true},
 		sweepCol{"media (legs)", false}, sweepCol{"rank by cost", true}, sweepCol{"Pareto", false},
 		sweepCol{"warnings", true}, sweepCol{"error", false})
 	var cheapest *sweep.Judged
@@ -141,6 +144,9 @@ func sweepViewOf(c *sweep.Comparison, opt SweepOptions) *sweepView {
 		switch j.Status {
 		case sweep.StatusOK:
 			v.OK++
+			if j.Incomplete() {
+				v.Incomplete++
+			}
 			if j.Rank == 1 && cheapest == nil {
 				cheapest = j
 			}
@@ -155,7 +161,7 @@ func sweepViewOf(c *sweep.Comparison, opt SweepOptions) *sweepView {
 		if j.DemoPrices {
 			v.DemoPrices++
 		}
-		row := sweepRowOf(j, c.Keys)
+		row := sweepRowOf(j, c.Keys, lu)
 		for i := range row.Cells {
 			row.Cells[i].Num = v.Cols[i].Num
 		}
@@ -168,7 +174,7 @@ func sweepViewOf(c *sweep.Comparison, opt SweepOptions) *sweepView {
 	return v
 }
 
-func sweepRowOf(j *sweep.Judged, keys []string) sweepRow {
+func sweepRowOf(j *sweep.Judged, keys []string, lu output.Units) sweepRow {
 	planned := j.Status != sweep.StatusFailed
 	text := func(s string) sweepCell { return sweepCell{Text: s, Sort: s} }
 	intc := func(n int, ok bool) sweepCell {
@@ -215,20 +221,14 @@ func sweepRowOf(j *sweep.Judged, keys []string) sweepRow {
 	}
 	trench := sweepCell{}
 	if planned {
-		s := strconv.FormatFloat(j.NewTrenchM, 'f', 1, 64)
+		s := strconv.FormatFloat(lu.Rounded(j.NewTrenchM, 1), 'f', 1, 64)
 		trench = sweepCell{Text: group(s), Sort: s}
 	}
 	spof := sweepCell{} // blank in rows written before the figure was kept
 	if j.DiverseSinglePoint != nil {
 		spof = intc(*j.DiverseSinglePoint, planned)
 	}
-	pareto := sweepCell{}
-	if j.Status == sweep.StatusOK {
-		pareto = text("no")
-		if j.Pareto {
-			pareto = text("yes")
-		}
-	}
+	pareto := text(sweep.ParetoText(&j.Row, j.Pareto))
 	row.Cells = append(row.Cells, text(j.Status), moneyc(j.TotalCents, planned), budget,
 		over, intc(j.InfeasibleLegs, planned), margin, trench,
 		intc(j.DiverseLinks, planned), spof, intc(j.DiverseMissing, planned), text(j.MediaMix),
@@ -316,6 +316,9 @@ func scatterOf(c *sweep.Comparison) scatter {
 		switch {
 		case j.Status == sweep.StatusInfeasible:
 			p.Class = "pt pt-infeasible"
+		case j.Incomplete():
+			p.Class = "pt pt-incomplete"
+			p.Title += ", not ranked: its total leaves out items not priced"
 		case j.Pareto:
 			p.Class = "pt pt-pareto"
 			p.Label = "#" + strconv.Itoa(j.Index)

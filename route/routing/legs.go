@@ -270,7 +270,7 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, me
 		return
 	}
 	leg.Feasible = true
-	leg.Cable.Fit(cm.eng.Catalog(), ch, leg.RiserM, cm.design.WastePct)
+	leg.Cable.Fit(cm.eng.Catalog(), ch, s.RiserM(leg.Link.To), s.RiserM(leg.Link.From), cm.design.WastePct)
 	leg.Medium, leg.Application, leg.Construction, leg.Inside = ch.Medium, ch.Application, ch.Construction, ch.Inside
 	leg.Losses = ch.Losses
 	if q, ok := ch.AttenuatorQuantity(); ok {

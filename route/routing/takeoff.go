@@ -50,9 +50,13 @@ type CableTakeoff struct {
 	// With an entrance transition (Leg.Inside): the part of LengthM bought as the inside
 	// construction, which runs the risers and the service coils at both ends (with waste),
 	// in InsideCables cables of InsideSize; the rest of LengthM is the outside-plant cable.
-	InsideLengthM float64
-	InsideSize    media.Size
-	InsideCables  int
+	// Each inside cable is two pieces, one at each end, cut to InsideToM at the served
+	// building (Link.To) and InsideFromM at the cross-connect (Link.From); InsideLengthM is
+	// their sum.
+	InsideLengthM          float64
+	InsideToM, InsideFromM float64
+	InsideSize             media.Size
+	InsideCables           int
 }
 
 // OutsideLengthM is the length bought of the leg's own construction: all of LengthM, or
@@ -366,14 +370,18 @@ func joinsUpToM(d plan.Design, joins int) float64 {
 }
 
 // Fit fills the takeoff's cable size from the rule engine's choice; with an entrance
-// transition, also the inside cable, which takes riserM and the service coils, with the
-// design's waste.
-func (t *CableTakeoff) Fit(cat *media.Catalog, ch media.Choice, riserM, wastePct float64) {
+// transition, also the inside cable: at each end a piece that takes that end's riser (riserToM
+// at the served building, riserFromM at the cross-connect) and service coil, with the design's
+// waste, cut to a whole metre, as a crew cuts each piece from its reel.
+func (t *CableTakeoff) Fit(cat *media.Catalog, ch media.Choice, riserToM, riserFromM, wastePct float64) {
 	m := cat.Medium(ch.Medium)
 	t.Size, t.Cables = m.Construction(ch.Construction).Fit(ch.Strands)
 	t.Terminated = ch.Strands
 	if ch.Inside != "" {
 		t.InsideSize, t.InsideCables = m.Construction(ch.Inside).Fit(ch.Strands)
-		t.InsideLengthM = math.Min(t.LengthM, math.Ceil((riserM+t.EndSlackM)*(1+wastePct/100)-1e-9))
+		piece := func(riserM float64) float64 { return math.Ceil((riserM+t.EndSlackM/2)*(1+wastePct/100) - 1e-9) }
+		t.InsideToM = math.Min(t.LengthM, piece(riserToM))
+		t.InsideFromM = math.Min(t.LengthM-t.InsideToM, piece(riserFromM))
+		t.InsideLengthM = t.InsideToM + t.InsideFromM
 	}
 }

@@ -30,18 +30,19 @@ type judged struct {
 	pareto bool // not dominated; only ok scenarios are judged
 }
 
-// judge ranks the ok rows by total cost (equal costs share a rank, the next rank skips:
-// 1, 2, 2, 4) and flags those no other ok row dominates on (total cost lower is better,
-// worst loss margin higher is better, links missing a diverse route fewer is better). A
-// scenario without fibre legs has no loss margin to lose and counts as the best margin.
-// Infeasible and failed scenarios get neither a rank nor a flag: their costs leave out the
-// links they could not serve.
+// judge ranks the complete ok rows by total cost (equal costs share a rank, the next rank
+// skips: 1, 2, 2, 4) and flags those no other complete ok row dominates on (total cost lower
+// is better, worst loss margin higher is better, links missing a diverse route fewer is
+// better). A scenario without fibre legs has no loss margin to lose and counts as the best
+// margin. Infeasible and failed scenarios get neither a rank nor a flag: their costs leave out
+// the links they could not serve; nor do incomplete ones (Row.Incomplete), whose totals leave
+// out what their books do not price (ParetoText says so).
 func judge(rows []Row) []judged {
 	out := make([]judged, len(rows))
 	var ok []int
 	for i := range rows {
 		out[i].Row = &rows[i]
-		if rows[i].Status == StatusOK {
+		if rows[i].Status == StatusOK && !rows[i].Incomplete() {
 			ok = append(ok, i)
 		}
 	}
@@ -107,6 +108,21 @@ func judge(rows []Row) []judged {
 		g = h
 	}
 	return out
+}
+
+// ParetoText is a row's pareto cell: "yes" or "no" for a ranked scenario, "no (incomplete)"
+// for an ok one whose total leaves out items its book does not price (Row.Incomplete), ""
+// for an infeasible or failed one. compare.csv, compare.md and the sweep report all use it.
+func ParetoText(r *Row, pareto bool) string {
+	switch {
+	case r.Status != StatusOK:
+		return ""
+	case r.Incomplete():
+		return "no (incomplete)"
+	case pareto:
+		return "yes"
+	}
+	return "no"
 }
 
 func same(rows []Row, a, b int, margin func(int) float64) bool {
@@ -206,19 +222,7 @@ var fixedColumns = []column{
 			}
 			return workbook.Number(*j.WorstMarginDB, 2)
 		}, nil},
-	{"new_trench_m", "new trench", "m",
-		func(j judged) string {
-			if !planned(j) {
-				return ""
-			}
-			return strconv.FormatFloat(j.NewTrenchM, 'f', 1, 64)
-		},
-		func(j judged) workbook.Cell {
-			if !planned(j) {
-				return workbook.Blank()
-			}
-			return workbook.Number(j.NewTrenchM, 1)
-		}, nil},
+	trenchColumn, // replaced by the run's units (columnsIn)
 	intCol("diverse_links", "diverse links", func(r *Row) int { return r.DiverseLinks }),
 	{"diverse_single_point", "diverse links sharing a single point of failure", "",
 		func(j judged) string {
@@ -249,18 +253,13 @@ var fixedColumns = []column{
 			return workbook.Int(int64(j.rank))
 		}, nil},
 	{"pareto", "pareto optimal", "",
-		func(j judged) string {
+		func(j judged) string { return ParetoText(j.Row, j.pareto) },
+		func(j judged) workbook.Cell {
 			switch {
 			case j.Status != StatusOK:
-				return ""
-			case j.pareto:
-				return "yes"
-			}
-			return "no"
-		},
-		func(j judged) workbook.Cell {
-			if j.Status != StatusOK {
 				return workbook.Blank()
+			case j.Incomplete():
+				return workbook.Text(ParetoText(j.Row, j.pareto))
 			}
 			return workbook.Bool(j.pareto)
 		}, nil},
@@ -294,6 +293,42 @@ var fixedColumns = []column{
 		}},
 }
 
+// trenchColumn is the metres of new trench; columnsIn replaces it by its units' (trenchIn).
+var trenchColumn = trenchIn(output.UnitsMetric)
+
+// trenchIn is the new trench column in units (output.UnitsMetric or UnitsImperial): metres,
+// or feet under --units imperial, one decimal, converted from the row's metres (summary.json's
+// new_trench_m, to 0.1 m), so a figure in feet can be 0.1 ft off the scenario's own files.
+func trenchIn(units string) column {
+	u := output.UnitsOf(output.WriteOptions{Units: units})
+	return column{"new_trench_" + u.Length, "new trench", u.Length,
+		func(j judged) string {
+			if !planned(j) {
+				return ""
+			}
+			return strconv.FormatFloat(u.Rounded(j.NewTrenchM, 1), 'f', 1, 64)
+		},
+		func(j judged) workbook.Cell {
+			if !planned(j) {
+				return workbook.Blank()
+			}
+			return workbook.Number(u.Rounded(j.NewTrenchM, 1), 1)
+		}, nil}
+}
+
+// columnsIn is fixedColumns with the lengths in units (output.UnitsMetric or UnitsImperial),
+// as the sweep wrote its scenarios' files (rowsHeader.Units): compare.csv's new_trench_m is
+// new_trench_ft under --units imperial.
+func columnsIn(units string) []column {
+	out := slices.Clone(fixedColumns)
+	for i := range out {
+		if out[i].csv == trenchColumn.csv {
+			out[i] = trenchIn(units)
+		}
+	}
+	return out
+}
+
 // bounded reports whether the row is planned with a lower bound.
 func bounded(j judged) bool { return planned(j) && j.LowerBoundCents != nil }
 
@@ -316,33 +351,37 @@ func currencyOf(rows []Row) string {
 
 // Compare renders the comparison of rows (every scenario of a sweep, in index order) as the
 // files compare.csv, compare.xlsx and compare.md. keys are the override keys, one column
-// each, in order.
+// each, in order; units the units of the scenarios' files for people (output.UnitsImperial,
+// or "" or output.UnitsMetric), which the lengths follow.
 //
 // compare.csv has a header line, then one line per scenario: index (0-based), id, case, one
 // column per override key (empty where the scenario keeps the base plan's value), status
 // (ok, infeasible, failed), currency, total_cost, plan_budget and over_budget (currency units
 // with two decimals; budget columns empty without a budget), infeasible_legs,
-// worst_margin_db (two decimals, empty without fibre legs), new_trench_m (one decimal),
+// worst_margin_db (two decimals, empty without fibre legs), new_trench_m (one decimal;
+// new_trench_ft under --units imperial, columnsIn),
 // diverse_links, diverse_single_point (of them, those whose two routes share a single point
 // of failure), diverse_missing, media_mix ("medium:legs" pairs), cost_rank, pareto
-// (yes/no), warnings, error, note, then objective and lower_bound (currency units, empty
+// (yes/no; "no (incomplete)" for an ok scenario whose total leaves out items not priced,
+// which is not ranked either), warnings, error, note, then objective and lower_bound (currency units, empty
 // without a bound) and gap_pct (the gap to the bound in percent, four decimals; empty
 // without a bound). compare.xlsx holds the same table, numbers as numbers, with a
 // second sheet of totals as formulas; compare.md the same as a Markdown table. Text from the
 // sweep (ids, case names, values, errors) is escaped for each file by package escape: no CSV
 // cell begins a formula, no Markdown text forms markup, hidden characters show as "<U+202E>".
-func Compare(rows []Row, keys []string) ([]fileset.OutputFile, error) {
+func Compare(rows []Row, keys []string, units string) ([]fileset.OutputFile, error) {
 	js := judge(rows)
 	cur := currencyOf(rows)
-	csvData, err := compareCSV(js, keys)
+	cols := columnsIn(units)
+	csvData, err := compareCSV(js, keys, cols)
 	if err != nil {
 		return nil, err
 	}
-	xlsx, err := compareXLSX(js, keys, cur)
+	xlsx, err := compareXLSX(js, keys, cur, cols)
 	if err != nil {
 		return nil, err
 	}
-	md := compareMD(js, keys, cur)
+	md := compareMD(js, keys, cur, cols)
 	return []fileset.OutputFile{
 		{Name: CompareCSV, Data: csvData},
 		{Name: CompareMD, Data: md},
@@ -350,11 +389,11 @@ func Compare(rows []Row, keys []string) ([]fileset.OutputFile, error) {
 	}, nil
 }
 
-func compareCSV(js []judged, keys []string) ([]byte, error) {
+func compareCSV(js []judged, keys []string, fixed []column) ([]byte, error) {
 	var b bytes.Buffer
 	w := escape.NewWriter(&b)
 	head := append([]string{"index", "id", "case"}, keys...)
-	for _, c := range fixedColumns {
+	for _, c := range fixed {
 		head = append(head, c.csv)
 	}
 	w.Write(head)
@@ -363,7 +402,7 @@ func compareCSV(js []judged, keys []string) ([]byte, error) {
 		for _, k := range keys {
 			rec = append(rec, j.value(k))
 		}
-		for _, c := range fixedColumns {
+		for _, c := range fixed {
 			rec = append(rec, c.text(j))
 		}
 		w.Write(rec)
@@ -381,14 +420,14 @@ func unitOf(c column, cur string) string {
 	return c.unit
 }
 
-func compareXLSX(js []judged, keys []string, cur string) ([]byte, error) {
+func compareXLSX(js []judged, keys []string, cur string, fixed []column) ([]byte, error) {
 	wb := workbook.New()
 	cols := []workbook.Column{{Name: "index"}, {Name: "id"}, {Name: "case"}}
 	for _, k := range keys {
 		cols = append(cols, workbook.Column{Name: k})
 	}
 	first := len(cols)
-	for _, c := range fixedColumns {
+	for _, c := range fixed {
 		cols = append(cols, workbook.Column{Name: c.human, Unit: unitOf(c, cur)})
 	}
 	sh := wb.AddSheet("scenarios", cols...)
@@ -398,13 +437,13 @@ func compareXLSX(js []judged, keys []string, cur string) ([]byte, error) {
 		for _, k := range keys {
 			cells = append(cells, axisCell(k, j.value(k)))
 		}
-		for _, c := range fixedColumns {
+		for _, c := range fixed {
 			cells = append(cells, c.cell(j))
 		}
 		sh.Append(cells...)
 	}
 	col := func(csvName string) string {
-		for i, c := range fixedColumns {
+		for i, c := range fixed {
 			if c.csv == csvName {
 				return sh.Range(first + i)
 			}
@@ -438,12 +477,13 @@ func compareXLSX(js []judged, keys []string, cur string) ([]byte, error) {
 	tot.Append(workbook.Text("with infeasible legs"), workbook.Formula("COUNTIF("+status+",\"infeasible\")", float64(n.infeasible), 0))
 	tot.Append(workbook.Text("failed"), workbook.Formula("COUNTIF("+status+",\"failed\")", float64(n.failed), 0))
 	tot.Append(workbook.Text("pareto optimal"), workbook.Formula("COUNTIF("+col("pareto")+",TRUE)", float64(pareto), 0))
-	// The cheapest and dearest ok scenarios are those ranked first and last; INDEX and MATCH
+	// The cheapest and dearest ranked scenarios (ok, every line priced) are those ranked first
+	// and last; INDEX and MATCH
 	// work in every spreadsheet program, unlike the newer conditional MIN and MAX.
 	cost, rank := col("total_cost"), col("cost_rank")
-	tot.Append(workbook.Text("lowest total cost of an ok scenario"+unitSuffix(cur)),
+	tot.Append(workbook.Text("lowest total cost of a ranked scenario"+unitSuffix(cur)),
 		costAtRank("IFERROR(INDEX("+cost+",MATCH(1,"+rank+",0)),\"\")", 1))
-	tot.Append(workbook.Text("highest total cost of an ok scenario"+unitSuffix(cur)),
+	tot.Append(workbook.Text("highest total cost of a ranked scenario"+unitSuffix(cur)),
 		costAtRank("IFERROR(INDEX("+cost+",MATCH(MAX("+rank+"),"+rank+",0)),\"\")", maxRank))
 	return wb.Bytes()
 }
@@ -493,7 +533,8 @@ func textOrBlank(s string) workbook.Cell {
 }
 
 // tally counts the scenarios by status: ok, with infeasible legs, failed (any other).
-type tally struct{ ok, infeasible, failed int }
+// Of the ok ones, incomplete counts those whose totals leave out items not priced.
+type tally struct{ ok, infeasible, failed, incomplete int }
 
 func tallyOf(js []judged) tally {
 	var n tally
@@ -501,6 +542,9 @@ func tallyOf(js []judged) tally {
 		switch j.Status {
 		case StatusOK:
 			n.ok++
+			if j.Incomplete() {
+				n.incomplete++
+			}
 		case StatusInfeasible:
 			n.infeasible++
 		default:
@@ -510,7 +554,7 @@ func tallyOf(js []judged) tally {
 	return n
 }
 
-func compareMD(js []judged, keys []string, cur string) []byte {
+func compareMD(js []judged, keys []string, cur string, fixed []column) []byte {
 	var b bytes.Buffer
 	var front []string
 	for _, j := range js {
@@ -524,8 +568,16 @@ func compareMD(js []judged, keys []string, cur string) []byte {
 	if cur != "" {
 		fmt.Fprintf(&b, " Money in %s.", escape.Markdown(cur))
 	}
-	fmt.Fprintf(&b, "\nRank and Pareto flag consider only ok scenarios (every leg feasible); Pareto over total cost,\n")
-	fmt.Fprintf(&b, "worst loss margin (higher is better) and links lacking a diverse route.\n\n")
+	fmt.Fprintf(&b, "\nRank and Pareto flag consider only ok scenarios (every leg feasible) whose totals price every\n")
+	fmt.Fprintf(&b, "line; Pareto over total cost, worst loss margin (higher is better) and links lacking a diverse route.\n")
+	if n.incomplete > 0 {
+		why := "its total leaves out items its price book does not price"
+		if n.incomplete > 1 {
+			why = "their totals leave out items their price books do not price"
+		}
+		fmt.Fprintf(&b, "%s not ranked: %s (pareto \"no (incomplete)\"; see the notes).\n", output.Counted(n.incomplete, "ok scenario", "ok scenarios"), why)
+	}
+	b.WriteString("\n")
 	if len(front) > 0 {
 		fmt.Fprintf(&b, "Pareto optimal: %s.\n\n", strings.Join(front, ", "))
 	}
@@ -538,7 +590,7 @@ func compareMD(js []judged, keys []string, cur string) []byte {
 		align = append(align, "---")
 	}
 	var cols []column
-	for _, c := range fixedColumns {
+	for _, c := range fixed {
 		if c.csv == "error" || c.csv == "currency" || c.csv == "note" {
 			continue // failures and notes are listed below the table; the currency is said above
 		}

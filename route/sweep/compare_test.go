@@ -118,7 +118,7 @@ func TestCompareMarkdown(t *testing.T) {
 			ObjectiveCents: 120, LowerBoundCents: ip(100), GapPct: fp(4.4158)},
 		{Index: 1, ID: "b-2", Case: "b", Status: StatusFailed, Error: "b-2/plan.yaml: hub: bad\nsecond line"},
 	}
-	files, err := Compare(rows, []string{"hub"})
+	files, err := Compare(rows, []string{"hub"}, "")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -186,7 +186,7 @@ func TestComparePayloads(t *testing.T) {
 			Currency: "EUR", TotalCents: int64(100 + i), WorstMarginDB: fp(-1.5), MediaMix: "os2:2"})
 	}
 	rows = append(rows, Row{Index: len(rows), ID: "failed-1", Status: StatusFailed, Error: "=1+2 <b>bad</b>\n\u202Eevil"})
-	files, err := Compare(rows, []string{"hub"})
+	files, err := Compare(rows, []string{"hub"}, "")
 	if err != nil {
 		t.Fatal(err)
 	}

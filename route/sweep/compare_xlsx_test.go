@@ -28,7 +28,7 @@ func TestCompareWorkbookOpenpyxl(t *testing.T) {
 			Status: StatusInfeasible, Currency: "USD", TotalCents: 99999, InfeasibleLegs: 1},
 		{Index: 2, ID: "s2", Set: [][2]string{{"hub", "NOWHERE"}}, Status: StatusFailed, Error: "no building NOWHERE"},
 	}
-	files, err := Compare(rows, keys)
+	files, err := Compare(rows, keys, "")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -62,8 +62,8 @@ ok = int:1
 with infeasible legs = int:1
 failed = int:1
 pareto optimal = int:1
-lowest total cost of an ok scenario (USD) = float:1234.56
-highest total cost of an ok scenario (USD) = float:1234.56
+lowest total cost of a ranked scenario (USD) = float:1234.56
+highest total cost of a ranked scenario (USD) = float:1234.56
 `
 	if string(out) != want {
 		t.Errorf("openpyxl read:\n%s\nwant:\n%s", out, want)
@@ -71,7 +71,7 @@ highest total cost of an ok scenario (USD) = float:1234.56
 
 	// Without an ok scenario the cost totals are the empty text IFERROR gives.
 	rows[0].Status = StatusFailed
-	files, err = Compare(rows, keys)
+	files, err = Compare(rows, keys, "")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -87,7 +87,7 @@ highest total cost of an ok scenario (USD) = float:1234.56
 	if err != nil {
 		t.Fatalf("openpyxl: %v\n%s", err, out)
 	}
-	if !strings.Contains(string(out), "ok = int:0\n") || !strings.Contains(string(out), "lowest total cost of an ok scenario (USD) = NoneType:None\n") {
+	if !strings.Contains(string(out), "ok = int:0\n") || !strings.Contains(string(out), "lowest total cost of a ranked scenario (USD) = NoneType:None\n") {
 		t.Errorf("openpyxl read without an ok scenario:\n%s", out)
 	}
 }

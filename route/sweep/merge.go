@@ -64,6 +64,10 @@ func Merge(dirs []string, out string, more CompareFunc) (*Report, error) {
 				errs = append(errs, fmt.Sprintf("%s: rows of another sweep than %s (%d scenarios, sweep %.12s, against %d, %.12s)",
 					path, from, h.Scenarios, h.Sweep, head.Scenarios, head.Sweep))
 				continue
+			} else if h.Units != head.Units {
+				errs = append(errs, fmt.Sprintf("%s: rows of scenarios written in %s units, %s's in %s; run the shards with the same --units",
+					path, unitsName(h.Units), from, unitsName(head.Units)))
+				continue
 			}
 			for _, r := range rs {
 				if where[r.Index] == "" {
@@ -165,4 +169,12 @@ func scenarioDirs(out string, rows []Row, where []string) []string {
 		dirs[i] = strings.Join(parts, "/")
 	}
 	return dirs
+}
+
+// unitsName is a rows header's units as a person reads them: "metric" for "".
+func unitsName(u string) string {
+	if u == "" {
+		return output.UnitsMetric
+	}
+	return u
 }

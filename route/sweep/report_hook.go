@@ -13,9 +13,10 @@ import (
 type Judged struct {
 	Row
 	// Rank is 1 for the cheapest ok scenario; equal costs share a rank and the next rank
-	// skips (1, 2, 2, 4); 0 for an infeasible or failed scenario.
+	// skips (1, 2, 2, 4); 0 for an infeasible or failed scenario, and for an incomplete one
+	// (Row.Incomplete: its total leaves out items its book does not price).
 	Rank int
-	// Pareto is set on an ok scenario that no other ok scenario dominates on total cost
+	// Pareto is set on a complete ok scenario that no other one dominates on total cost
 	// (lower is better), worst loss margin (higher) and links missing a diverse route (fewer).
 	Pareto bool
 	// Dir is the scenario's folder relative to the comparison's folder, with slashes and
@@ -30,6 +31,9 @@ type Comparison struct {
 	Keys     []string
 	Rows     []Judged
 	Currency string // the currency every planned scenario shares; "" when they differ
+	// Units are the units the scenarios' files for people are in (output.UnitsImperial, or
+	// "" for metric): the report shows lengths in them, as compare.csv does.
+	Units string
 }
 
 // Judge ranks rows (every scenario of a sweep, in index order) and flags the Pareto-optimal
@@ -61,7 +65,9 @@ func ReadComparison(dir string) (*Comparison, error) {
 			return nil, fmt.Errorf("read comparison: %s: scenario %d missing", path, i)
 		}
 	}
-	return Judge(rows, h.Keys), nil
+	c := Judge(rows, h.Keys)
+	c.Units = h.Units
+	return c, nil
 }
 
 // CompareFunc renders more comparison files (a report) from a finished sweep's comparison;
@@ -76,5 +82,7 @@ func judgeEncoded(data []byte) (*Comparison, error) {
 	if err != nil {
 		return nil, err
 	}
-	return Judge(rows, h.Keys), nil
+	c := Judge(rows, h.Keys)
+	c.Units = h.Units
+	return c, nil
 }

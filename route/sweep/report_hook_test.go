@@ -26,7 +26,7 @@ func hookRows() []Row {
 func TestJudgeMatchesCompare(t *testing.T) {
 	rows := hookRows()
 	c := Judge(rows, nil)
-	files, err := Compare(rows, nil)
+	files, err := Compare(rows, nil, "")
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -10,6 +10,7 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"slices"
 	"sort"
 	"strings"
 
@@ -53,6 +54,10 @@ type Row struct {
 	// joined by "; "), e.g. a link entry for the building the scenario makes the hub; and what
 	// its total leaves out, priced by a book without them (output.Summary.NotPricedNote).
 	Note string `json:"note,omitempty"`
+	// NotPriced lists what its total leaves out, priced by a book without it
+	// (output.Summary.NotPriced); absent when every line is priced, and in a rows file written
+	// before it was kept. A scenario with it is incomplete (Row.Incomplete).
+	NotPriced []string `json:"not_priced,omitempty"`
 	// Report is the name of the scenario's HTML report in its folder (report.html, written
 	// with Options.Extra), "" when it has none: the comparison links it.
 	Report string `json:"report,omitempty"`
@@ -93,6 +98,7 @@ func (r *Row) fill(s output.Summary) {
 	r.MediaMix = strings.Join(media, " ")
 	r.Warnings = s.WarningCount
 	r.Note = strings.Join(s.Notes, "; ")
+	r.NotPriced = slices.Clone(s.NotPriced)
 	if np := s.NotPricedNote(); np != "" { // its total is not comparable with a book that prices them
 		r.Note = strings.TrimPrefix(r.Note+"; "+np, "; ")
 	}
@@ -103,6 +109,11 @@ func (r *Row) fill(s output.Summary) {
 		r.Status = StatusInfeasible
 	}
 }
+
+// Incomplete reports whether the scenario is planned with every leg feasible but its total
+// leaves out items its price book does not price (NotPriced): a total not to rank against
+// complete ones (common practice, no published source: bids are compared on the same scope).
+func (r *Row) Incomplete() bool { return r.Status == StatusOK && len(r.NotPriced) > 0 }
 
 func (r *Row) fail(err error) {
 	*r = Row{Index: r.Index, ID: r.ID, Case: r.Case, Set: r.Set, Status: StatusFailed, Error: err.Error()}
@@ -142,6 +153,10 @@ type rowsHeader struct {
 	Scenarios int      `json:"scenarios"` // in the whole sweep
 	Keys      []string `json:"keys"`      // override keys, the comparison's columns
 	Shard     string   `json:"shard,omitempty"`
+	// Units are the units the scenarios' files for people are in, output.UnitsImperial or ""
+	// for metric (absent, so a metric rows file reads as before): the comparison's lengths
+	// follow them (columnsIn).
+	Units string `json:"units,omitempty"`
 }
 
 func sweepHash(f *File) string {

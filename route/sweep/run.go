@@ -116,6 +116,7 @@ type Report struct {
 	Failed     int
 	Failures   []Row    // the failed scenarios' rows, in index order
 	DemoPrices int      // scenarios priced by the invented demo price book
+	Incomplete int      // of OK, those not ranked: their totals leave out items not priced (Row.Incomplete)
 	Files      []string // files written besides the scenario folders, sorted
 	// Notes say what the run did that the user may not expect: a kept base scenario planned
 	// again because its folder was not as the sweep wrote it, folders in the output folder
@@ -156,6 +157,9 @@ func (r *Report) count(row Row) {
 	switch row.Status {
 	case StatusOK:
 		r.OK++
+		if row.Incomplete() {
+			r.Incomplete++
+		}
 	case StatusInfeasible:
 		r.Infeasible++
 	default:
@@ -205,6 +209,9 @@ func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
 		return nil, err
 	}
 	h := rowsHeader{Format: RowsFormat, Sweep: sweepHash(f), Scenarios: len(f.Scenarios()), Keys: f.Keys(), Shard: opt.Shard.String()}
+	if opt.Write.Units == output.UnitsImperial {
+		h.Units = output.UnitsImperial
+	}
 	// Refuse before planning anything when the comparison would replace the sweep file or
 	// the base plan (the files the scenarios read are checked again when it is written).
 	names, err := renderRun(h, nil, opt.Shard, opt.Compare, nil)
@@ -271,7 +278,7 @@ func renderRun(h rowsHeader, rows []Row, sh Shard, more CompareFunc, dirs []stri
 	if !sh.Whole() {
 		return []fileset.OutputFile{{Name: shardRowsFile(sh), Data: data}}, nil
 	}
-	files, err := Compare(rows, h.Keys)
+	files, err := Compare(rows, h.Keys, h.Units)
 	if err != nil {
 		return nil, err
 	}
