@@ -224,6 +224,7 @@ type builder struct {
 	warns        []warnRec
 
 	proj    projector
+	cellM   float64 // the grids' cell size, in metres
 	parts   []part
 	segs    []segRef
 	segGrid *grid
@@ -363,7 +364,9 @@ func (b *builder) setup() {
 	b.proj = newProjector(bound)
 	lo, hi := b.proj.xy(bound.Min), b.proj.xy(bound.Max)
 	cell := math.Max(minCellM, math.Max(hi.x-lo.x, hi.y-lo.y)/1024)
-	b.segGrid, b.vtxGrid = newGrid(cell), newGrid(cell)
+	b.segGrid, b.vtxGrid, b.cellM = newGrid(cell), newGrid(cell), cell
+	b.overlaps()
+	c = b.c
 
 	var stack [][2]int // markKept's scratch
 	for pi, pw := range c.Pathways {
