@@ -47,7 +47,9 @@ const minCellM = 25.0
 //     several entrances, one on a pathway wins (lowest junction ID), else the shortest lateral.
 //  2. Via "footprint": a pathway end inside the footprint or within SnapM of its boundary; of
 //     several, the junction with the most spans, then the lowest ID.
-//  3. Via "lateral": the nearest point of any pathway within MaxLateralM of the footprint,
+//  3. Via "footprint" too: where a pathway drawn across the footprint (both ends outside it)
+//     crosses its boundary (wallDoors), every such place an entrance, never a point inside;
+//  4. Via "lateral": the nearest point of any pathway within MaxLateralM of the footprint,
 //     which becomes a junction (a vertex within SnapM of it that marks a place on the line is
 //     used instead, so short spans are not cut off); the lateral runs from the nearest point of
 //     the footprint boundary.
@@ -60,8 +62,10 @@ const minCellM = 25.0
 // Beside the Access, every way into a building is one of its Entrances: each declared
 // entrance on a pathway or within MaxLateralM of one (each off the pathways gets its own
 // counted lateral, and the place where it joins becomes a junction), and each pathway end on
-// the footprint; the lateral of 3 only when there is neither. A declared entrance beyond
+// the footprint; the wall crossings of 3, or the lateral of 4, only when there is neither. A declared entrance beyond
 // MaxLateralM of every pathway is a Warning when another entrance of its building reaches.
+// So is every duct or direct-buried pathway drawn across a footprint (through), and each
+// span records the buildings it runs beneath wall to wall (Span.Beneath).
 // Build also lists what meets at each junction (Meetings), the pathways inside each building
 // and whether routes may pass through it (Transit), warns about every pathway end that joins
 // nothing, and lists those ends' near misses (NearMisses). All problems come back
@@ -246,6 +250,7 @@ type builder struct {
 	pieces  []piece
 	rep     map[int]orb.Point // root → junction point
 	cutIn   map[string][]int  // pathway ID → the buildings (index) where cutAtWalls cut an end of it
+	walled  map[int]bool      // buildings (index) entered where pathways drawn across them cross a wall (wallDoors)
 	parted  map[int][][]int   // building index → the members splitInside parted, per meeting point
 	ids     map[int]string    // root → junction ID
 	buf     []int32
@@ -710,6 +715,20 @@ func (b *builder) planAccess() {
 			b.plans[bi] = accessPlan{via: ViaFootprint, target: -1, cands: cands}
 			continue
 		}
+		if walls := b.wallDoors(f); len(walls) > 0 {
+			// A pathway drawn across the building (both ends outside): it is entered where
+			// the pathway crosses its wall, as at a pathway end on the footprint, never at a
+			// point inside it.
+			for _, m := range walls {
+				b.doors[bi] = append(b.doors[bi], door{via: ViaFootprint, target: m, entrance: -1})
+			}
+			b.plans[bi] = accessPlan{via: ViaFootprint, target: -1, cands: walls}
+			if b.walled == nil {
+				b.walled = make(map[int]bool)
+			}
+			b.walled[bi] = true
+			continue
+		}
 		lo, hi := f.lo.sub(vec{b.maxLat, b.maxLat}), f.hi.add(vec{b.maxLat, b.maxLat})
 		b.buf = b.segGrid.query(lo, hi, b.buf)
 		best := b.lateralPlace(f)
@@ -720,6 +739,37 @@ func (b *builder) planAccess() {
 		b.plans[bi] = accessPlan{via: ViaLateral, target: b.target(best.seg, best.t)}
 		b.doors[bi] = append(b.doors[bi], door{via: ViaLateral, target: b.plans[bi].target, entrance: -1})
 	}
+}
+
+// wallDoors lists, as members that must become junctions, every place where a pathway
+// crosses the boundary of footprint f (a ring's edge, holes included), in segment order: the
+// walls of a building that pathways are drawn across. A crossing within SnapM of a vertex
+// that marks a place on the line takes that vertex (target).
+func (b *builder) wallDoors(f *footprint) []int {
+	ids := b.segGrid.query(f.lo, f.hi, nil)
+	var out []int
+	for _, s := range ids {
+		sr := b.segs[s]
+		p := &b.parts[sr.part]
+		a, c := p.xy[sr.i], p.xy[sr.i+1]
+		var ts []float64
+		for _, poly := range f.rings {
+			for _, ring := range poly {
+				for k := 1; k < len(ring); k++ {
+					if t, _, ok := segIntersect(a, c, ring[k-1], ring[k]); ok {
+						ts = append(ts, t)
+					}
+				}
+			}
+		}
+		slices.Sort(ts)
+		for _, t := range slices.Compact(ts) {
+			if m := b.target(int(s), t); !slices.Contains(out, m) {
+				out = append(out, m)
+			}
+		}
+	}
+	return out
 }
 
 // footprintEnds lists the pathway ends inside footprint f or within SnapM of its boundary, as

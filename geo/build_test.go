@@ -405,9 +405,11 @@ func TestBuildAccess(t *testing.T) {
 			want: Access{Building: "B", Via: ViaLateral}, wantLateralM: 12, wantSpans: 2,
 		},
 		{
+			// entered where it crosses the wall (the west one, J0002), not at a junction
+			// inside: the trunk is cut at both walls
 			name: "pathway through the building",
 			c:    Campus{Buildings: []Building{box("B", 100, 0, 10)}, Pathways: []Pathway{trunk}},
-			want: Access{Building: "B", Via: ViaLateral}, wantSpans: 2,
+			want: Access{Building: "B", Via: ViaFootprint, Junction: "J0002"}, wantSpans: 3,
 		},
 	}
 	for _, tc := range cases {

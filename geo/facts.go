@@ -437,10 +437,18 @@ func built(n *Network, at map[string]int) {
 // the telecom room enters once and is not warned of; a trench drawn across a building, or
 // into it and out again to an entrance, is, with the metres inside (projected). The plan
 // still prices those metres as new work: only the campus's author can say where it goes.
-func (b *builder) through(id string, f *footprint, pws []int, partsOf [][2]int) {
+//
+// An existing duct or direct-buried pathway drawn so (a duct drawn schematically straight
+// across a building, an old duct under a newer wing, a service duct run on through a wing to
+// a courtyard) is warned of too: the cable pulled along it passes under the building in the
+// duct, which only the campus's author can confirm. walled says the building is entered
+// where such pathways cross its wall (wallDoors), which the warning then says.
+func (b *builder) through(id string, f *footprint, pws []int, partsOf [][2]int, walled bool) {
 	b.pws = b.pws[:0]
 	for _, pw := range pws {
-		if p := &b.c.Pathways[pw]; p.Status == StatusProposed && p.Type != TypeTray && p.Type != TypeAerial {
+		p := &b.c.Pathways[pw]
+		if p.Status == StatusProposed && p.Type != TypeTray && p.Type != TypeAerial ||
+			p.Status != StatusProposed && (p.Type == TypeDuct || p.Type == TypeBuried) {
 			b.pws = append(b.pws, pw)
 		}
 	}
@@ -451,11 +459,22 @@ func (b *builder) through(id string, f *footprint, pws []int, partsOf [][2]int) 
 		for q := partsOf[pw][0]; q < partsOf[pw][1]; q++ {
 			inM += f.passedM(&b.parts[q])
 		}
-		if inM > b.snap {
+		if inM <= b.snap {
+			continue
+		}
+		if p.Status == StatusProposed {
 			b.warns = append(b.warns, warnRec{p.Source, p.ID, fmt.Sprintf(
 				"proposed pathway %q runs %.1f m inside the footprint of building %q, not only to its wall: new work there is priced as if dug outside; draw it around the building, or to the wall where it enters",
 				p.ID, inM, id)})
+			continue
 		}
+		entered := ""
+		if walled {
+			entered = fmt.Sprintf(" building %q is entered where it crosses the wall;", id)
+		}
+		b.warns = append(b.warns, warnRec{p.Source, p.ID, fmt.Sprintf(
+			"existing pathway %q runs %.1f m inside the footprint of building %q, not only to its wall: routes along it pass beneath the building, and those metres count as outside plant;%s check that it runs there, or draw it around the building, or to the wall where it enters",
+			p.ID, inM, id, entered)})
 	}
 }
 
@@ -503,6 +522,17 @@ func (b *builder) transit(n *Network) {
 		}
 		partsOf[p.pw][1] = q + 1
 	}
+	spansOf := make(map[string][]int) // pathway ID → its spans (index)
+	for i, s := range n.Spans {
+		if s.Type == TypeDuct || s.Type == TypeBuried {
+			spansOf[s.PathwayID] = append(spansOf[s.PathwayID], i)
+		}
+	}
+	type under struct {
+		building string
+		alongM   float64 // where the span enters the footprint, from its From end
+	}
+	beneath := make(map[int][]under)
 	for bi, bl := range b.c.Buildings {
 		t := Transit{Building: bl.ID, Marked: bl.Transit}
 		f := &b.feet[bi]
@@ -519,7 +549,14 @@ func (b *builder) transit(n *Network) {
 					t.Interior = append(t.Interior, b.c.Pathways[pw].ID)
 				}
 			}
-			b.through(bl.ID, f, pws, partsOf)
+			b.through(bl.ID, f, pws, partsOf, b.walled[bi])
+			for _, pw := range pws {
+				for _, si := range spansOf[b.c.Pathways[pw].ID] {
+					if at, ok := b.passesBeneath(f, n.Spans[si].Line); ok {
+						beneath[si] = append(beneath[si], under{bl.ID, at})
+					}
+				}
+			}
 		}
 		sort.Strings(t.Interior)
 		for _, rs := range b.parted[bi] {
@@ -535,6 +572,63 @@ func (b *builder) transit(n *Network) {
 		n.Transit = append(n.Transit, t)
 	}
 	sort.Slice(n.Transit, func(i, j int) bool { return n.Transit[i].Building < n.Transit[j].Building })
+	for si, us := range beneath {
+		slices.SortFunc(us, func(x, y under) int {
+			return cmp.Or(cmp.Compare(x.alongM, y.alongM), strings.Compare(x.building, y.building))
+		})
+		for _, u := range us {
+			n.Spans[si].Beneath = append(n.Spans[si].Beneath, u.building)
+		}
+	}
+}
+
+// passesBeneath reports whether line (a span's, lon/lat) runs across footprint f for more
+// than SnapM (projected) in stretches that begin and end at its boundary, not at an end of the
+// line inside it, and where along the line (projected metres from its first point) the first
+// such stretch begins.
+func (b *builder) passesBeneath(f *footprint, line orb.LineString) (float64, bool) {
+	if len(line) < 2 {
+		return 0, false
+	}
+	xy := make([]vec, len(line))
+	for i, p := range line {
+		xy[i] = b.proj.xy(p)
+	}
+	deep := func(p vec) bool { // an end more than SnapM inside the footprint
+		if !f.contains(p) {
+			return false
+		}
+		_, d := f.nearestBoundary(p)
+		return d > b.snap
+	}
+	first, last := deep(xy[0]), deep(xy[len(xy)-1])
+	type stretch struct{ from, to float64 }
+	var in []stretch
+	cum := 0.0
+	for i := 1; i < len(xy); i++ {
+		l := xy[i].dist(xy[i-1])
+		f.insideParts(xy[i-1], xy[i], nil, func(t0, t1 float64) {
+			from, to := cum+t0*l, cum+t1*l
+			if k := len(in); k > 0 && from-in[k-1].to <= 1e-9 {
+				in[k-1].to = to
+				return
+			}
+			in = append(in, stretch{from, to})
+		})
+		cum += l
+	}
+	var m, at float64
+	found := false
+	for k, s := range in {
+		if (k == 0 && first && s.from <= 1e-9) || (k == len(in)-1 && last && s.to >= cum-1e-9) {
+			continue
+		}
+		if !found {
+			at, found = s.from, true
+		}
+		m += s.to - s.from
+	}
+	return at, found && m > b.snap
 }
 
 // inside reports whether the pathway made of parts r[0]..r[1]-1 lies inside footprint f.
