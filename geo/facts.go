@@ -85,16 +85,39 @@ type NearMiss struct {
 	// beyond.
 	DistanceM float64
 	SnapM     float64
+	// For a structure missed (Kind KindStructure): its type, and the pathways the end joins
+	// instead (sorted; none when it dangles).
+	StructureType string
+	Joins         []string
 }
+
+// structureMissFactor times SnapM is how far from a structure a pathway end that does not
+// join it is a near miss, whether or not the end joins something else: a structure is a point
+// in the file but a box of 1 to 2 m in the ground, and a GIS office draws ducts to its wall
+// (common practice, no published source).
+const structureMissFactor = 4
 
 // String says what was missed and by how much, e.g. "pathway D-12 ends 0.8 m from pathway
 // T-3, beyond snap_m 0.5".
 func (m NearMiss) String() string {
+	if m.Kind == KindStructure {
+		instead := ""
+		if len(m.Joins) > 0 {
+			instead = "; it joins pathway " + strings.Join(m.Joins, " and ") + " there instead"
+		}
+		return fmt.Sprintf("pathway %s ends %s m from %s %s, beyond snap_m %s%s (drawn to its wall? snap_m %s would join it)",
+			m.Pathway, fmtBeyond(m.DistanceM, m.SnapM), m.StructureType, m.Target, fmtM(m.SnapM), instead, snapToJoin(m.DistanceM))
+	}
 	what := "pathway"
 	if m.Kind == KindBuilding {
 		what = "the footprint of building"
 	}
 	return fmt.Sprintf("pathway %s ends %s m from %s %s, beyond snap_m %s", m.Pathway, fmtBeyond(m.DistanceM, m.SnapM), what, m.Target, fmtM(m.SnapM))
+}
+
+// snapToJoin is the snap_m, in whole tenths of a metre, that takes in distance d.
+func snapToJoin(d float64) string {
+	return strconv.FormatFloat(math.Ceil(d*10-1e-9)/10, 'f', 1, 64)
 }
 
 // fmtBeyond prints distance d with one decimal, or as many more (up to three) as it takes not
@@ -718,6 +741,7 @@ func (b *builder) dangling(n *Network) {
 			n.NearMisses = append(n.NearMisses, b.nearMisses(pi, v, id)...)
 		}
 	}
+	n.NearMisses = append(n.NearMisses, b.structureMisses(n)...)
 	sort.SliceStable(n.NearMisses, func(i, j int) bool {
 		x, y := n.NearMisses[i], n.NearMisses[j]
 		if x.Pathway != y.Pathway {
@@ -780,6 +804,75 @@ func (b *builder) nearMisses(pi, v int, id string) []NearMiss {
 			m.Kind, m.Target, m.At, m.DistanceM = KindBuilding, bl.ID, at, DistanceM(end, at)
 			out = append(out, m)
 		}
+	}
+	return out
+}
+
+// structureMisses lists every pathway end within structureMissFactor×SnapM of a structure
+// it does not join, beyond SnapM: one that dangles, or one that joins another pathway there
+// (a duct bank's line ending short of the maintenance hole taps the cross street instead).
+// A structure joined to the end's own line elsewhere (a line run on past it) is not one. When
+// two or more ends miss structures so, one Warning names the snap_m that would join them all.
+func (b *builder) structureMisses(n *Network) []NearMiss {
+	if len(b.c.Structures) == 0 {
+		return nil
+	}
+	r := structureMissFactor * b.snap
+	g := newGrid(b.cellM)
+	xys := make([]vec, len(b.c.Structures))
+	for si, st := range b.c.Structures {
+		xys[si] = b.proj.xy(st.Point)
+		g.addPoint(si, xys[si])
+	}
+	root := make([]int, len(b.c.Structures)) // the structure's junction root
+	for i, m := range b.mem {
+		if m.kind == memStructure {
+			root[m.ref] = b.find(i)
+		}
+	}
+	var out []NearMiss
+	var ids []int32
+	for pi := range b.parts {
+		p := &b.parts[pi]
+		onLine := make(map[int]bool) // the roots along this line
+		for _, e := range b.entries[pi] {
+			onLine[b.find(e.m)] = true
+		}
+		for _, v := range [2]int{0, len(p.xy) - 1} {
+			lo, hi := around(p.xy[v], r)
+			ids = g.query(lo, hi, ids)
+			er := b.find(p.v0 + v)
+			for _, s := range ids {
+				si := int(s)
+				if d := p.xy[v].dist(xys[si]); d <= b.snap || d > r || root[si] == er || onLine[root[si]] {
+					continue
+				}
+				st, pw := b.c.Structures[si], b.c.Pathways[p.pw]
+				m := NearMiss{Pathway: pw.ID, Source: pw.Source, Junction: b.ids[er], End: p.ll[v], Kind: KindStructure,
+					Target: st.ID, At: st.Point, DistanceM: DistanceM(p.ll[v], st.Point), SnapM: b.snap, StructureType: st.Type}
+				if mt, ok := n.MeetingAt(m.Junction); ok && m.Junction != "" {
+					for _, other := range mt.Pathways {
+						if other != pw.ID && !slices.Contains(m.Joins, other) {
+							m.Joins = append(m.Joins, other)
+						}
+					}
+					slices.Sort(m.Joins)
+				}
+				out = append(out, m)
+			}
+		}
+	}
+	if len(out) >= 2 {
+		far, first := 0.0, out[0]
+		for _, m := range out {
+			far = max(far, m.DistanceM)
+			if m.Pathway < first.Pathway {
+				first = m
+			}
+		}
+		b.warns = append(b.warns, warnRec{first.Source, first.Pathway, fmt.Sprintf(
+			"%d pathway ends lie beyond snap_m %s but within %s m of a structure they do not join (see the near misses): if the lines are drawn to the structures' walls rather than their points, snap_m %s would join them",
+			len(out), fmtM(b.snap), fmtBeyond(far, b.snap), snapToJoin(far))})
 	}
 	return out
 }
