@@ -1427,7 +1427,8 @@ func (b *builder) lateralTo(bi int, via string, r int, from orb.Point, has bool)
 	return 0, nil
 }
 
-// crossings warns about pathways that cross with no junction where they cross.
+// crossings warns about pathways, and lines of one pathway, that cross with no junction where
+// they cross.
 func (b *builder) crossings() {
 	type crossing struct {
 		pa, pb int // parts, pa's pathway id < pb's
@@ -1449,8 +1450,8 @@ func (b *builder) crossings() {
 			}
 			or := b.segs[o]
 			q := &b.parts[or.part]
-			if q.pw == p.pw {
-				continue
+			if or.part == sr.part {
+				continue // a line crossing itself
 			}
 			t, u, ok := segIntersect(a, c, q.xy[or.i], q.xy[or.i+1])
 			if !ok {
@@ -1461,7 +1462,7 @@ func (b *builder) crossings() {
 				continue
 			}
 			cr := crossing{pa: sr.part, pb: or.part, along: alongP, at: lerpLL(p.ll[sr.i], p.ll[sr.i+1], t)}
-			if b.c.Pathways[q.pw].ID < b.c.Pathways[p.pw].ID {
+			if qi, pi := b.c.Pathways[q.pw].ID, b.c.Pathways[p.pw].ID; qi < pi || (qi == pi && or.part < sr.part) {
 				cr = crossing{pa: or.part, pb: sr.part, along: alongQ, at: lerpLL(q.ll[or.i], q.ll[or.i+1], u)}
 			}
 			found = append(found, cr)
@@ -1487,6 +1488,12 @@ func (b *builder) crossings() {
 		pa, pb := b.c.Pathways[b.parts[cr.pa].pw], b.c.Pathways[b.parts[cr.pb].pw]
 		if b.cutOff(pa.ID, cr.at) || b.cutOff(pb.ID, cr.at) {
 			continue // on a stretch inside a building that cutAtWalls left off
+		}
+		if pa.ID == pb.ID { // two lines of one MultiLineString
+			b.warns = append(b.warns, warnRec{pa.Source, pa.ID, fmt.Sprintf(
+				"lines %d and %d of pathway %q cross at %s, %s with no shared vertex or structure; they are not joined there",
+				b.parts[cr.pa].k+1, b.parts[cr.pb].k+1, pa.ID, fmtLL(cr.at[0]), fmtLL(cr.at[1]))})
+			continue
 		}
 		b.warns = append(b.warns, warnRec{pa.Source, pa.ID, fmt.Sprintf(
 			"pathways %q and %q cross at %s, %s with no shared vertex or structure; they are not joined there",

@@ -177,3 +177,23 @@ func TestOverlapWarned(t *testing.T) {
 		})
 	}
 }
+
+// Two lines of one MultiLineString that cross with no shared vertex stay apart, as two
+// pathways do (README), and are warned of as two pathways' crossing is (tester 7: an X drawn
+// as one feature gave no warning). Lines of one feature meeting end to end are not.
+func TestMultiLineCrossingWarned(t *testing.T) {
+	t.Parallel()
+	n := build(t, &Campus{Pathways: []Pathway{
+		pw("D-XX", ml(0, 100, 250, 100), ml(125, 0, 125, 200)),
+		pw("D-YY", ml(0, 300, 100, 300), ml(100, 300, 200, 320)),
+	}})
+	ws := warningsWith(n, "cross at")
+	if len(ws) != 1 || !strings.HasPrefix(ws[0].Message, `lines 1 and 2 of pathway "D-XX" cross at `) || ws[0].Feature != "#0 (D-XX)" {
+		t.Errorf("got warnings %v, want one for D-XX's two lines", n.Warnings)
+	}
+	for _, s := range n.Spans {
+		if s.PathwayID == "D-XX" && s.ID != "D-XX/1" && s.ID != "D-XX/2" {
+			t.Errorf("D-XX's lines were joined where they cross: %s", spanIDs(n))
+		}
+	}
+}
