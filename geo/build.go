@@ -227,24 +227,27 @@ type builder struct {
 	errs         input.Problems
 	warns        []warnRec
 
-	proj    projector
-	cellM   float64 // the grids' cell size, in metres
-	parts   []part
-	segs    []segRef
-	segGrid *grid
-	pws     []int // scratch: pathway indices (through)
-	vtxGrid *grid
-	mem     []member
-	parent  []int
-	labeled []bool
-	splits  [][]int // per part
-	shared  []bool  // per vertex member: another line has a vertex at exactly its position
-	entIDs  []string
-	entMem  []int
-	entOn   []bool
-	feet    []footprint
-	plans   []accessPlan // per building, input order
-	doors   [][]door     // per building, input order: every way in
+	proj  projector
+	cellM float64 // the grids' cell size, in metres
+	// segsIndexed says segGrid already lists every segment as setup numbers them (overlaps
+	// built it on the same lines).
+	segsIndexed bool
+	parts       []part
+	segs        []segRef
+	segGrid     *grid
+	pws         []int // scratch: pathway indices (through)
+	vtxGrid     *grid
+	mem         []member
+	parent      []int
+	labeled     []bool
+	splits      [][]int // per part
+	shared      []bool  // per vertex member: another line has a vertex at exactly its position
+	entIDs      []string
+	entMem      []int
+	entOn       []bool
+	feet        []footprint
+	plans       []accessPlan // per building, input order
+	doors       [][]door     // per building, input order: every way in
 
 	entries [][]entry // per part, kept junction positions
 	pieces  []piece
@@ -392,7 +395,9 @@ func (b *builder) setup() {
 				b.newMember(member{part: len(b.parts), seg: i, ll: p, xy: pt.xy[i], kind: memVertex}, false)
 				b.vtxGrid.addPoint(pt.v0+i, pt.xy[i])
 				if i > 0 {
-					b.segGrid.addSeg(len(b.segs), pt.xy[i-1], pt.xy[i])
+					if !b.segsIndexed {
+						b.segGrid.addSeg(len(b.segs), pt.xy[i-1], pt.xy[i])
+					}
 					b.segs = append(b.segs, segRef{part: len(b.parts), i: i - 1})
 				}
 			}

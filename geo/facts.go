@@ -466,6 +466,8 @@ func built(n *Network, at map[string]int) {
 // a courtyard) is warned of too: the cable pulled along it passes under the building in the
 // duct, which only the campus's author can confirm. walled says the building is entered
 // where such pathways cross its wall (wallDoors), which the warning then says.
+//
+// It returns, in b.pws, the pathways (index) that run inside f for more than SnapM so.
 func (b *builder) through(id string, f *footprint, pws []int, partsOf [][2]int, walled bool) {
 	b.pws = b.pws[:0]
 	for _, pw := range pws {
@@ -476,7 +478,9 @@ func (b *builder) through(id string, f *footprint, pws []int, partsOf [][2]int, 
 		}
 	}
 	slices.Sort(b.pws)
-	for _, pw := range slices.Compact(b.pws) {
+	b.pws = slices.Compact(b.pws)
+	passing := b.pws[:0]
+	for _, pw := range b.pws {
 		p := &b.c.Pathways[pw]
 		var inM float64
 		for q := partsOf[pw][0]; q < partsOf[pw][1]; q++ {
@@ -485,6 +489,7 @@ func (b *builder) through(id string, f *footprint, pws []int, partsOf [][2]int, 
 		if inM <= b.snap {
 			continue
 		}
+		passing = append(passing, pw)
 		if p.Status == StatusProposed {
 			b.warns = append(b.warns, warnRec{p.Source, p.ID, fmt.Sprintf(
 				"proposed pathway %q runs %.1f m inside the footprint of building %q, not only to its wall: new work there is priced as if dug outside; draw it around the building, or to the wall where it enters",
@@ -499,6 +504,7 @@ func (b *builder) through(id string, f *footprint, pws []int, partsOf [][2]int, 
 			"existing pathway %q runs %.1f m inside the footprint of building %q, not only to its wall: routes along it pass beneath the building, and those metres count as outside plant;%s check that it runs there, or draw it around the building, or to the wall where it enters",
 			p.ID, inM, id, entered)})
 	}
+	b.pws = passing
 }
 
 // passedM is the projected length of part p inside footprint f, less the stretches from an
@@ -573,7 +579,7 @@ func (b *builder) transit(n *Network) {
 				}
 			}
 			b.through(bl.ID, f, pws, partsOf, b.walled[bi])
-			for _, pw := range pws {
+			for _, pw := range b.pws { // a span passes beneath only where its pathway does
 				for _, si := range spansOf[b.c.Pathways[pw].ID] {
 					if at, ok := b.passesBeneath(f, n.Spans[si].Line); ok {
 						beneath[si] = append(beneath[si], under{bl.ID, at})

@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"math"
 	"slices"
-	"strings"
 
 	"github.com/paulmach/orb"
 )
@@ -88,12 +87,13 @@ func sameProps(a, b *Pathway) bool {
 		a.Plenum == b.Plenum && group(a) == group(b)
 }
 
-// shapeKey is a pathway's lines as a text that does not depend on the direction each is drawn
-// in, their order, or a position repeated in a row: two pathways with one key are one drawing.
-func shapeKey(pw *Pathway) string {
-	lines := make([]string, 0, len(pw.Lines))
+// shape is a pathway's lines in a form that does not depend on the direction each is drawn
+// in, their order, or a position repeated in a row: two pathways of equal shapes are one
+// drawing.
+func shape(pw *Pathway) []orb.LineString {
+	lines := make([]orb.LineString, 0, len(pw.Lines))
 	for _, ls := range pw.Lines {
-		var pts []orb.Point
+		var pts orb.LineString
 		for _, p := range ls {
 			if len(pts) == 0 || pts[len(pts)-1] != p {
 				pts = append(pts, p)
@@ -102,14 +102,56 @@ func shapeKey(pw *Pathway) string {
 		if n := len(pts); n > 0 && lessLL(pts[n-1], pts[0]) {
 			slices.Reverse(pts)
 		}
-		var sb strings.Builder
-		for _, p := range pts {
-			fmt.Fprintf(&sb, "%x,%x;", math.Float64bits(p[0]), math.Float64bits(p[1]))
-		}
-		lines = append(lines, sb.String())
+		lines = append(lines, pts)
 	}
-	slices.Sort(lines)
-	return strings.Join(lines, "|")
+	slices.SortFunc(lines, func(x, y orb.LineString) int {
+		for i := 0; i < len(x) && i < len(y); i++ {
+			if x[i] != y[i] {
+				if lessLL(x[i], y[i]) {
+					return -1
+				}
+				return 1
+			}
+		}
+		return len(x) - len(y)
+	})
+	return lines
+}
+
+// sameShape reports whether shapes x and y are one drawing.
+func sameShape(x, y []orb.LineString) bool {
+	return slices.EqualFunc(x, y, func(a, b orb.LineString) bool { return slices.Equal(a, b) })
+}
+
+// shapeHint is what two pathways of one shape share, cheap to find: the least of their lines'
+// ends (each line's ends in order), their counts of lines and of positions (a position
+// repeated in a row counted once).
+type shapeHint struct {
+	lo, hi      orb.Point
+	lines, npts int
+}
+
+func hintOf(pw *Pathway) shapeHint {
+	h := shapeHint{lines: len(pw.Lines)}
+	first := true
+	for _, ls := range pw.Lines {
+		for i, p := range ls {
+			if i == 0 || p != ls[i-1] {
+				h.npts++
+			}
+		}
+		if len(ls) == 0 {
+			continue
+		}
+		lo, hi := ls[0], ls[len(ls)-1]
+		if lessLL(hi, lo) {
+			lo, hi = hi, lo
+		}
+		if first || lessLL(lo, h.lo) || (lo == h.lo && lessLL(hi, h.hi)) {
+			h.lo, h.hi, first = lo, hi, false
+		}
+	}
+	return h
 }
 
 // overlaps looks for pathways drawn on top of one another before noding, on a copy of the
@@ -130,7 +172,7 @@ func (b *builder) overlaps() {
 	c := *b.c
 	c.Pathways = slices.Clone(c.Pathways)
 	b.c = &c
-	b.dropDuplicates()
+	dropped := b.dropDuplicates()
 
 	var lines []oline
 	for pi := range c.Pathways {
@@ -165,26 +207,26 @@ func (b *builder) overlaps() {
 	}
 	pairs := make(map[[2]int]*olPair)
 	var order [][2]int
-	var ids []int32
 	sinMax := math.Sin(overlapMaxDeg * deg)
+	seen := make([]int32, len(segs)) // the segment (+1) whose search last met each segment
 	for s, sr := range segs {
 		la := &lines[sr.line]
 		a, c2 := la.xy[sr.i], la.xy[sr.i+1]
 		lo := vec{math.Min(a.x, c2.x) - b.snap, math.Min(a.y, c2.y) - b.snap}
 		hi := vec{math.Max(a.x, c2.x) + b.snap, math.Max(a.y, c2.y) + b.snap}
-		ids = g.query(lo, hi, ids)
-		for _, o := range ids {
-			if int(o) <= s {
-				continue
+		g.visit(lo, hi, func(o int32) {
+			if int(o) <= s || seen[o] == int32(s)+1 {
+				return
 			}
+			seen[o] = int32(s) + 1
 			or := segs[o]
 			lb := &lines[or.line]
 			if lb.pw == la.pw {
-				continue
+				return
 			}
 			st, ok := alongEach(a, c2, lb.xy[or.i], lb.xy[or.i+1], b.snap, sinMax)
 			if !ok {
-				continue
+				return
 			}
 			st.a0, st.a1 = la.cum[sr.i]+st.a0, la.cum[sr.i]+st.a1
 			st.b0, st.b1 = lb.cum[or.i]+st.b0, lb.cum[or.i]+st.b1
@@ -196,7 +238,7 @@ func (b *builder) overlaps() {
 				order = append(order, key)
 			}
 			p.st = append(p.st, st)
-		}
+		})
 	}
 	slices.SortFunc(order, func(x, y [2]int) int {
 		if x[0] != y[0] {
@@ -267,6 +309,10 @@ func (b *builder) overlaps() {
 			pa.ID, pa.Source, pb.ID, shortM(total), fmtM(b.snap))})
 	}
 	if len(trims) == 0 {
+		if !dropped {
+			// The lines are the parts setup makes, in its order: its segment index is this one.
+			b.segGrid, b.segsIndexed = g, true
+		}
 		return
 	}
 	lis := make([]int, 0, len(trims))
@@ -383,12 +429,13 @@ func mergeStretches(st []stretch) []stretch {
 
 // dropDuplicates drops every pathway of b.c that is another drawn again: the same lines
 // (shapeKey) and the same properties but the id; the lowest id is kept. Each dropped one is a
-// Warning.
-func (b *builder) dropDuplicates() {
+// Warning. It reports whether it dropped any.
+func (b *builder) dropDuplicates() bool {
 	c := b.c
-	first := make(map[string][]int) // shape → pathways with it
+	// Only pathways with one hint can be one drawing.
+	first := make(map[shapeHint][]int)
 	for i := range c.Pathways {
-		k := shapeKey(&c.Pathways[i])
+		k := hintOf(&c.Pathways[i])
 		first[k] = append(first[k], i)
 	}
 	drop := make(map[int]bool)
@@ -396,13 +443,17 @@ func (b *builder) dropDuplicates() {
 		if len(same) < 2 {
 			continue
 		}
+		shapes := make([][]orb.LineString, len(same))
+		for x, i := range same {
+			shapes[x] = shape(&c.Pathways[i])
+		}
 		for x, i := range same {
 			if drop[i] {
 				continue
 			}
-			for _, j := range same[x+1:] {
+			for y, j := range same[x+1:] {
 				pi, pj := &c.Pathways[i], &c.Pathways[j]
-				if drop[j] || !sameProps(pi, pj) {
+				if drop[j] || !sameProps(pi, pj) || !sameShape(shapes[x], shapes[x+1+y]) {
 					continue
 				}
 				kept, gone, g := pi, pj, j
@@ -420,7 +471,7 @@ func (b *builder) dropDuplicates() {
 		}
 	}
 	if len(drop) == 0 {
-		return
+		return false
 	}
 	kept := c.Pathways[:0:0]
 	for i, pw := range c.Pathways {
@@ -429,4 +480,5 @@ func (b *builder) dropDuplicates() {
 		}
 	}
 	c.Pathways = kept
+	return true
 }
