@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strings"
 
 	"github.com/paulmach/orb"
 )
@@ -224,13 +225,19 @@ func (b *builder) overlaps() {
 			if lb.pw == la.pw {
 				return
 			}
-			st, ok := alongEach(a, c2, lb.xy[or.i], lb.xy[or.i+1], b.snap, sinMax)
+			// Measured along the line of the lower pathway id (then line number), whatever
+			// the order of the features: the metres and the meeting point do not follow it.
+			key, sa, sb := [2]int{sr.line, or.line}, sr, or
+			if x, y := &c.Pathways[la.pw], &c.Pathways[lb.pw]; y.ID < x.ID || (y.ID == x.ID && lb.k < la.k) {
+				key, sa, sb = [2]int{or.line, sr.line}, or, sr
+			}
+			l0, l1 := &lines[sa.line], &lines[sb.line]
+			st, ok := alongEach(l0.xy[sa.i], l0.xy[sa.i+1], l1.xy[sb.i], l1.xy[sb.i+1], b.snap, sinMax)
 			if !ok {
 				return
 			}
-			st.a0, st.a1 = la.cum[sr.i]+st.a0, la.cum[sr.i]+st.a1
-			st.b0, st.b1 = lb.cum[or.i]+st.b0, lb.cum[or.i]+st.b1
-			key := [2]int{sr.line, or.line} // sr.line < or.line: segments are listed line by line
+			st.a0, st.a1 = l0.cum[sa.i]+st.a0, l0.cum[sa.i]+st.a1
+			st.b0, st.b1 = l1.cum[sb.i]+st.b0, l1.cum[sb.i]+st.b1
 			p := pairs[key]
 			if p == nil {
 				p = &olPair{a: key[0], b: key[1]}
@@ -240,7 +247,7 @@ func (b *builder) overlaps() {
 			p.st = append(p.st, st)
 		})
 	}
-	slices.SortFunc(order, func(x, y [2]int) int {
+	slices.SortFunc(order, func(x, y [2]int) int { // any fixed order: each pair is decided alone
 		if x[0] != y[0] {
 			return x[0] - y[0]
 		}
@@ -265,11 +272,9 @@ func (b *builder) overlaps() {
 		if total <= b.snap {
 			continue
 		}
-		pa, pb := &c.Pathways[la.pw], &c.Pathways[lb.pw]
-		if pb.ID < pa.ID {
-			pa, pb = pb, pa
-		}
-		if len(merged) == 1 && total <= overlapJoinM && sameDuctsPW(pa, pb) {
+		pa, pb := &c.Pathways[la.pw], &c.Pathways[lb.pw] // pa.ID < pb.ID
+		// Up to overlapJoinM to the millimetre: an overshoot drawn as 5 m is 5 m.
+		if len(merged) == 1 && total <= overlapJoinM+1e-3 && sameDuctsPW(pa, pb) {
 			m := merged[0]
 			// Where the stretch's ends lie along lb.
 			_, x0 := la.at(m.a0)
@@ -443,6 +448,9 @@ func (b *builder) dropDuplicates() bool {
 		if len(same) < 2 {
 			continue
 		}
+		// In id order, each kept one the lowest of its drawing: the same warnings whatever
+		// the order of the features.
+		slices.SortFunc(same, func(x, y int) int { return strings.Compare(c.Pathways[x].ID, c.Pathways[y].ID) })
 		shapes := make([][]orb.LineString, len(same))
 		for x, i := range same {
 			shapes[x] = shape(&c.Pathways[i])
@@ -456,17 +464,10 @@ func (b *builder) dropDuplicates() bool {
 				if drop[j] || !sameProps(pi, pj) || !sameShape(shapes[x], shapes[x+1+y]) {
 					continue
 				}
-				kept, gone, g := pi, pj, j
-				if gone.ID < kept.ID {
-					kept, gone, g = pj, pi, i
-				}
-				drop[g] = true
-				b.warns = append(b.warns, warnRec{gone.Source, gone.ID, fmt.Sprintf(
+				drop[j] = true // pj.ID > pi.ID
+				b.warns = append(b.warns, warnRec{pj.Source, pj.ID, fmt.Sprintf(
 					"pathway %q is pathway %q (%s) drawn again: the same line and properties; counted once, as %q",
-					gone.ID, kept.ID, kept.Source, kept.ID)})
-				if g == i {
-					break
-				}
+					pj.ID, pi.ID, pi.Source, pi.ID)})
 			}
 		}
 	}

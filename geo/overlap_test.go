@@ -1,6 +1,7 @@
 package geo
 
 import (
+	"fmt"
 	"math"
 	"regexp"
 	"slices"
@@ -195,5 +196,45 @@ func TestMultiLineCrossingWarned(t *testing.T) {
 		if s.PathwayID == "D-XX" && s.ID != "D-XX/1" && s.ID != "D-XX/2" {
 			t.Errorf("D-XX's lines were joined where they cross: %s", spanIDs(n))
 		}
+	}
+}
+
+// The overlap pass decides the same whatever the order of the features: which copy is kept,
+// where overshooting pieces meet (measured along the lower id's line), the metres in each
+// warning. Spans and warnings are compared whole, coordinates bit for bit.
+func TestOverlapFeatureOrder(t *testing.T) {
+	t.Parallel()
+	pws := []Pathway{
+		pw("Z", ml(0, 0, 100, 0)), pw("M", ml(100, 0, 0, 0)), pw("A", ml(0, 0, 100, 0)), // one line three times
+		pw("P-1", ml(0, 50, 126.3, 50.2)), pw("P-2", ml(250, 50, 124.1, 50.1)), // overshooting by 2.2 m
+		pw("Q-1", ml(0, 90, 135, 90)), pw("Q-2", ml(115, 90.2, 250, 90.2)), // along each other for 20 m
+		pw("X", ml(50, -20, 50, 120)), // across them all
+	}
+	n1 := build(t, &Campus{Pathways: slices.Clone(pws)})
+	rev := slices.Clone(pws)
+	slices.Reverse(rev)
+	n2 := build(t, &Campus{Pathways: rev})
+	type spanOf struct {
+		ID, From, To string
+		Line         string
+	}
+	key := func(n *Network) []spanOf {
+		var out []spanOf
+		for _, s := range n.Spans {
+			out = append(out, spanOf{s.ID, s.From, s.To, fmt.Sprint(s.Line)})
+		}
+		return out
+	}
+	if !slices.Equal(key(n1), key(n2)) {
+		t.Errorf("spans differ with the features reversed:\n%v\n%v", key(n1), key(n2))
+	}
+	if len(warningsWith(n1, `"P-1" (t.geojson feature #0) and "P-2" overlap end to end`)) != 1 {
+		t.Errorf("got %v, want P-1 and P-2 cut to meet", n1.Warnings)
+	}
+	if !slices.Equal(n1.Warnings, n2.Warnings) {
+		t.Errorf("warnings differ with the features reversed:\n%v\n%v", n1.Warnings, n2.Warnings)
+	}
+	if ws := warningsWith(n1, "drawn again:"); len(ws) != 2 || !strings.Contains(ws[0].Message+ws[1].Message, `counted once, as "A"`) {
+		t.Errorf("got %v, want M and Z counted once as A", ws)
 	}
 }
