@@ -168,6 +168,8 @@ func hintOf(pw *Pathway) shapeHint {
 //     more than SnapM in all are warned of with the metres, and planned as drawn: two
 //     pathways, each with its own ducts.
 //
+// Two lines of one MultiLineString are taken as two pathways of the same ducts.
+//
 // It needs b.proj. Time O(n) in the number of segments with the grid, as crossings.
 func (b *builder) overlaps() {
 	c := *b.c
@@ -222,8 +224,8 @@ func (b *builder) overlaps() {
 			seen[o] = int32(s) + 1
 			or := segs[o]
 			lb := &lines[or.line]
-			if lb.pw == la.pw {
-				return
+			if or.line == sr.line {
+				return // a line along itself is no overlap of two
 			}
 			// Measured along the line of the lower pathway id (then line number), whatever
 			// the order of the features: the metres and the meeting point do not follow it.
@@ -304,14 +306,14 @@ func (b *builder) overlaps() {
 					kb.to = min(kb.to, meetB)
 				}
 				b.warns = append(b.warns, warnRec{pb.Source, pb.ID, fmt.Sprintf(
-					"pathways %q (%s) and %q overlap end to end for %s m: pathways that carry the same ducts and overshoot each other by up to %s m are taken as one run drawn in pieces; both cut to meet at %s",
-					pa.ID, pa.Source, pb.ID, shortM(total), fmtM(overlapJoinM), where)})
+					"%s overlap end to end for %s m: pathways that carry the same ducts and overshoot each other by up to %s m are taken as one run drawn in pieces; both cut to meet at %s",
+					twoLines(pa, pb, la, lb), shortM(total), fmtM(overlapJoinM), where)})
 				continue
 			}
 		}
 		b.warns = append(b.warns, warnRec{pb.Source, pb.ID, fmt.Sprintf(
-			"pathways %q (%s) and %q are drawn along each other for %s m (within snap_m %s): planned as two pathways there, each with its own ducts; if one is the other drawn again, delete it or cut it where the other ends",
-			pa.ID, pa.Source, pb.ID, shortM(total), fmtM(b.snap))})
+			"%s are drawn along each other for %s m (within snap_m %s): planned as two pathways there, each with its own ducts; if one is the other drawn again, delete it or cut it where the other ends",
+			twoLines(pa, pb, la, lb), shortM(total), fmtM(b.snap))})
 	}
 	if len(trims) == 0 {
 		if !dropped {
@@ -336,6 +338,15 @@ func (b *builder) overlaps() {
 		}
 		pw.Lines[l.k] = l.cutTo(t.from, t.to)
 	}
+}
+
+// twoLines names, for a warning, two pathways (the second's feature is the warning's own), or
+// two lines of one MultiLineString.
+func twoLines(pa, pb *Pathway, la, lb *oline) string {
+	if pa == pb {
+		return fmt.Sprintf("lines %d and %d of pathway %q", la.k+1, lb.k+1, pa.ID)
+	}
+	return fmt.Sprintf("pathways %q (%s) and %q", pa.ID, pa.Source, pb.ID)
 }
 
 // along is the projected length along l to the point of l nearest xy.

@@ -238,3 +238,18 @@ func TestOverlapFeatureOrder(t *testing.T) {
 		t.Errorf("got %v, want M and Z counted once as A", ws)
 	}
 }
+
+// Two lines of one MultiLineString (a GIS dissolve of pieces) are checked as two pathways of
+// the same ducts: overshooting end to end by 2 m they meet as pieces drawn to meet; along
+// each other for 20 m they are warned of, naming the lines.
+func TestOverlapWithinMultiLine(t *testing.T) {
+	t.Parallel()
+	n := build(t, &Campus{Pathways: []Pathway{pw("D", ml(0, 0, 127, 0), ml(125, 0, 250, 0))}})
+	if ws := warningsWith(n, `lines 1 and 2 of pathway "D" overlap end to end`); len(ws) != 1 || len(n.Spans) != 2 || maxDegree(n) != 2 {
+		t.Errorf("overshoot: got %s, warnings %v; want two spans meeting, one warning", spanIDs(n), n.Warnings)
+	}
+	n = build(t, &Campus{Pathways: []Pathway{pw("D", ml(0, 0, 135, 0), ml(115, 0, 250, 0))}})
+	if ws := warningsWith(n, `lines 1 and 2 of pathway "D" are drawn along each other`); len(ws) != 1 || !nearM(overlapM(ws[0]), 20) {
+		t.Errorf("20 m along: got warnings %v", n.Warnings)
+	}
+}
