@@ -229,9 +229,10 @@ type builder struct {
 
 	proj  projector
 	cellM float64 // the grids' cell size, in metres
-	// segsIndexed says segGrid already lists every segment as setup numbers them (overlaps
-	// built it on the same lines).
+	// segsIndexed says segGrid already lists every segment as setup numbers them, and
+	// olines holds every line projected as setup would (overlaps made them on the same lines).
 	segsIndexed bool
+	olines      []oline
 	parts       []part
 	segs        []segRef
 	segGrid     *grid
@@ -379,18 +380,27 @@ func (b *builder) setup() {
 	var stack [][2]int // markKept's scratch
 	for pi, pw := range c.Pathways {
 		for k, src := range pw.Lines {
-			ls := make(orb.LineString, 0, len(src))
-			for _, p := range src {
-				if len(ls) == 0 || ls[len(ls)-1] != p {
-					ls = append(ls, p)
+			var pt part
+			if b.segsIndexed { // overlaps made this line, the same way
+				l := &b.olines[len(b.parts)]
+				pt = part{pw: pi, k: k, ll: l.ll, xy: l.xy, cum: l.cum, v0: len(b.mem), s0: len(b.segs)}
+			} else {
+				ls := make(orb.LineString, 0, len(src))
+				for _, p := range src {
+					if len(ls) == 0 || ls[len(ls)-1] != p {
+						ls = append(ls, p)
+					}
 				}
+				pt = part{pw: pi, k: k, ll: ls, xy: make([]vec, len(ls)), cum: make([]float64, len(ls)),
+					v0: len(b.mem), s0: len(b.segs)}
 			}
-			pt := part{pw: pi, k: k, ll: ls, xy: make([]vec, len(ls)), cum: make([]float64, len(ls)),
-				v0: len(b.mem), s0: len(b.segs)}
+			ls := pt.ll
 			for i, p := range ls {
-				pt.xy[i] = b.proj.xy(p)
-				if i > 0 {
-					pt.cum[i] = pt.cum[i-1] + pt.xy[i].dist(pt.xy[i-1])
+				if !b.segsIndexed {
+					pt.xy[i] = b.proj.xy(p)
+					if i > 0 {
+						pt.cum[i] = pt.cum[i-1] + pt.xy[i].dist(pt.xy[i-1])
+					}
 				}
 				b.newMember(member{part: len(b.parts), seg: i, ll: p, xy: pt.xy[i], kind: memVertex}, false)
 				b.vtxGrid.addPoint(pt.v0+i, pt.xy[i])
@@ -411,6 +421,7 @@ func (b *builder) setup() {
 			b.parts = append(b.parts, pt)
 		}
 	}
+	b.olines = nil
 	b.shared = make([]bool, len(b.mem))
 	b.splits = make([][]int, len(b.parts))
 	b.feet = make([]footprint, len(c.Buildings))

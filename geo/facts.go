@@ -840,17 +840,23 @@ func (b *builder) structureMisses(n *Network) []NearMiss {
 	var ids []int32
 	for pi := range b.parts {
 		p := &b.parts[pi]
-		onLine := make(map[int]bool) // the roots along this line
-		for _, e := range b.entries[pi] {
-			onLine[b.find(e.m)] = true
-		}
+		var onLine map[int]bool // the roots along this line, when a structure is near an end
 		for _, v := range [2]int{0, len(p.xy) - 1} {
 			lo, hi := around(p.xy[v], r)
 			ids = g.query(lo, hi, ids)
 			er := b.find(p.v0 + v)
 			for _, s := range ids {
 				si := int(s)
-				if d := p.xy[v].dist(xys[si]); d <= b.snap || d > r || root[si] == er || onLine[root[si]] {
+				if d := p.xy[v].dist(xys[si]); d <= b.snap || d > r || root[si] == er {
+					continue
+				}
+				if onLine == nil {
+					onLine = make(map[int]bool)
+					for _, e := range b.entries[pi] {
+						onLine[b.find(e.m)] = true
+					}
+				}
+				if onLine[root[si]] {
 					continue
 				}
 				st, pw := b.c.Structures[si], b.c.Pathways[p.pw]

@@ -177,10 +177,17 @@ func (b *builder) overlaps() {
 	b.c = &c
 	dropped := b.dropDuplicates()
 
-	var lines []oline
+	nl, ns := 0, 0
+	for pi := range c.Pathways {
+		nl += len(c.Pathways[pi].Lines)
+		for _, src := range c.Pathways[pi].Lines {
+			ns += max(0, len(src)-1)
+		}
+	}
+	lines := make([]oline, 0, nl)
 	for pi := range c.Pathways {
 		for k, src := range c.Pathways[pi].Lines {
-			l := oline{pw: pi, k: k}
+			l := oline{pw: pi, k: k, ll: make(orb.LineString, 0, len(src))}
 			for _, p := range src {
 				if len(l.ll) == 0 || l.ll[len(l.ll)-1] != p {
 					l.ll = append(l.ll, p)
@@ -199,7 +206,7 @@ func (b *builder) overlaps() {
 		}
 	}
 	type segID struct{ line, i int }
-	var segs []segID
+	segs := make([]segID, 0, ns)
 	g := newGrid(b.cellM)
 	for li := range lines {
 		l := &lines[li]
@@ -318,7 +325,7 @@ func (b *builder) overlaps() {
 	if len(trims) == 0 {
 		if !dropped {
 			// The lines are the parts setup makes, in its order: its segment index is this one.
-			b.segGrid, b.segsIndexed = g, true
+			b.segGrid, b.segsIndexed, b.olines = g, true, lines
 		}
 		return
 	}
