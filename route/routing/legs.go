@@ -51,7 +51,8 @@ type Leg struct {
 	// served building (Link.To) and at the cross-connect (Link.From).
 	EntranceTo, EntranceFrom string
 	// Crosses lists, in travel order, the buildings the route passes through (in at one of
-	// their entrances and out at another), which the campus allows (geo.Transit).
+	// their entrances and out at another), which the campus allows (geo.Transit), and those
+	// it passes beneath in a duct drawn across them (geo.Span.Beneath).
 	Crosses []string
 	// Turns lists, in travel order, the junctions where the route turns from one pathway into
 	// another at a handhole or pull box the plan adds (geo.PassNeedsStructure); not where it
@@ -217,6 +218,13 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, me
 			continue
 		}
 		sp := &s.Net.Spans[h.Edge]
+		// The buildings the span runs beneath wall to wall (geo.Span.Beneath), in travel order.
+		for i := range sp.Beneath {
+			if !h.Forward {
+				i = len(sp.Beneath) - 1 - i
+			}
+			leg.crossing(sp.Beneath[i : i+1])
+		}
 		if k+1 < len(ol.Hops) {
 			// The junction the route passes after this span: in a building other than the
 			// leg's own, the route crosses that building (allowed there, or it would not pass).
@@ -225,11 +233,7 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, me
 				j = sp.From
 			}
 			if m, ok := s.Net.MeetingAt(j); ok {
-				for _, b := range m.Buildings {
-					if b != leg.Link.To && b != leg.Link.From && (len(leg.Crosses) == 0 || leg.Crosses[len(leg.Crosses)-1] != b) {
-						leg.Crosses = append(leg.Crosses, b)
-					}
-				}
+				leg.crossing(m.Buildings)
 			}
 		}
 		leg.Steps = append(leg.Steps, geo.Step{SpanID: sp.ID, Reverse: !h.Forward})
@@ -452,4 +456,14 @@ func sharedJunctions(s *site.Site, a, b *Leg) []string {
 		}
 	}
 	return out
+}
+
+// crossing adds to the leg's Crosses each of buildings that is not one of the link's own,
+// unless the route is in it already (the last listed).
+func (leg *Leg) crossing(buildings []string) {
+	for _, b := range buildings {
+		if b != leg.Link.To && b != leg.Link.From && (len(leg.Crosses) == 0 || leg.Crosses[len(leg.Crosses)-1] != b) {
+			leg.Crosses = append(leg.Crosses, b)
+		}
+	}
 }
