@@ -368,7 +368,7 @@ func TestCopperTakeoff(t *testing.T) {
 	cat := r.Engine.Catalog()
 	k := cat.Medium("cat6a").Construction("outdoor")
 	leg.Medium, leg.Construction, leg.Application = "cat6a", "outdoor", "1000BASE-T"
-	leg.Cable.Fit(cat, media.Choice{Medium: "cat6a", Construction: "outdoor", Strands: (leg.StrandsCable + 1) / 2}, leg.RiserM, 0)
+	leg.Cable.Fit(cat, media.Choice{Medium: "cat6a", Construction: "outdoor", Strands: (leg.StrandsCable + 1) / 2}, 0)
 	if leg.Cable.Cables != (leg.StrandsCable+1)/2 || leg.Cable.Size != k.Sizes[0] {
 		t.Fatalf("copper fit: %+v", leg.Cable)
 	}
@@ -661,8 +661,10 @@ func TestEntranceTransition(t *testing.T) {
 		t.Fatalf("with it: %s + %q (%s), want osp-loose-tube spliced to ofnr-riser", lt.Construction, lt.Inside, lt.Choice)
 	}
 	c := lt.Cable
-	if want := math.Ceil((80 + c.EndSlackM) * 1.05); c.InsideLengthM != want || c.LengthM != lp.Cable.LengthM {
-		t.Errorf("inside cable %.0f m of %.0f m bought, want %.0f of %.0f (risers 2 × 40 m and the service coils, 5 %% waste)",
+	// The inside cable is all the cable inside the end buildings (media.Link.InsideAM and
+	// InsideBM): the risers, the service coils and the entrance loops.
+	if want := math.Ceil((80 + c.EndSlackM + c.EntranceLoopM) * 1.05); c.InsideLengthM != want || c.LengthM != lp.Cable.LengthM {
+		t.Errorf("inside cable %.0f m of %.0f m bought, want %.0f of %.0f (risers 2 × 40 m, the service coils and entrance loops, 5 %% waste)",
 			c.InsideLengthM, c.LengthM, want, lp.Cable.LengthM)
 	}
 	for _, nm := range []int{1310} {

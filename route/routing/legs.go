@@ -74,6 +74,10 @@ type Leg struct {
 	// splices between them, which the loss budget counts (see CableTakeoff).
 	Cable CableTakeoff
 
+	// Option is the optimizer's option the leg was routed in (optimize.Option.Name: its
+	// medium, and how it priced the cable when the medium has several; routing's optionName).
+	Option string
+
 	// Attenuators is the bill item of the attenuators a receiver needs on a channel below
 	// its application's least loss (receiver overload); empty when none.
 	Attenuators []media.Quantity
@@ -165,9 +169,11 @@ func isTurn(lay *layout, spans, e int) bool {
 }
 
 // fillLeg sets a leg's route and its medium from the rule engine on the route's own facts;
-// the estimate prices it (package estimate). runHH holds the handholes along new construction
+// the estimate prices it (package estimate). option is the optimizer's option the route is
+// for (optionName). runHH holds the handholes along new construction
 // by span ID (runHandholes).
-func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, medium string, info demandInfo, runHH map[string][]float64) {
+func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, option string, info demandInfo, runHH map[string][]float64) {
+	leg.Option = option
 	if e, ok := lay.endEntry[leg.Link.To]; ok {
 		leg.EntranceTo = e.ID
 	}
@@ -252,6 +258,9 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, me
 	// The spans of the route drawn inside an end's building are inside it too.
 	facts.InsideAM += interiorM(s, leg.Link.To, ol)
 	facts.InsideBM += interiorM(s, leg.Link.From, ol)
+	for _, b := range leg.Crosses {
+		facts.CrossedInsideM += interiorM(s, b, ol)
+	}
 	facts.MaxEMI = emi
 	facts.Outdoor = outdoor
 	facts.Plenum = plenum
@@ -270,15 +279,15 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, me
 		return
 	}
 	leg.Feasible = true
-	leg.Cable.Fit(cm.eng.Catalog(), ch, leg.RiserM, cm.design.WastePct)
+	leg.Cable.Fit(cm.eng.Catalog(), ch, cm.design.WastePct)
 	leg.Medium, leg.Application, leg.Construction, leg.Inside = ch.Medium, ch.Application, ch.Construction, ch.Inside
 	leg.Losses = ch.Losses
 	if q, ok := ch.AttenuatorQuantity(); ok {
 		leg.Attenuators = []media.Quantity{q}
 	}
 	leg.WorstMarginDB = worstMargin(ch.Losses)
-	if ch.Medium != medium {
-		leg.Choice += fmt.Sprintf(" (the optimizer routed it for %s)", medium)
+	if ch.Medium != optionMedium(option) {
+		leg.Choice += fmt.Sprintf(" (the optimizer routed it for %s)", optionMedium(option))
 	}
 }
 

@@ -45,11 +45,14 @@ type CableTakeoff struct {
 	Terminated int
 
 	// With an entrance transition (Leg.Inside): the part of LengthM bought as the inside
-	// construction, which runs the risers and the service coils at both ends (with waste),
+	// construction, which runs inside the end buildings (InsideRunM, with waste),
 	// in InsideCables cables of InsideSize; the rest of LengthM is the outside-plant cable.
 	InsideLengthM float64
-	InsideSize    media.Size
-	InsideCables  int
+	// InsideRunM is the inside cable's run before waste: the cable inside the end buildings
+	// the media engine spliced on (media.Choice.InsideM); 0 without a transition.
+	InsideRunM   float64
+	InsideSize   media.Size
+	InsideCables int
 }
 
 // OutsideLengthM is the length bought of the leg's own construction: all of LengthM, or
@@ -344,14 +347,16 @@ func joinsUpToM(d plan.Design, joins int) float64 {
 }
 
 // Fit fills the takeoff's cable size from the rule engine's choice; with an entrance
-// transition, also the inside cable, which takes riserM and the service coils, with the
-// design's waste.
-func (t *CableTakeoff) Fit(cat *media.Catalog, ch media.Choice, riserM, wastePct float64) {
+// transition, also the inside cable, which takes what the engine laid inside the end
+// buildings (media.Choice.InsideM: risers, service coils, entrance loops, in-building trays),
+// with the design's waste.
+func (t *CableTakeoff) Fit(cat *media.Catalog, ch media.Choice, wastePct float64) {
 	m := cat.Medium(ch.Medium)
 	t.Size, t.Cables = m.Construction(ch.Construction).Fit(ch.Strands)
 	t.Terminated = ch.Strands
 	if ch.Inside != "" {
 		t.InsideSize, t.InsideCables = m.Construction(ch.Inside).Fit(ch.Strands)
-		t.InsideLengthM = math.Min(t.LengthM, math.Ceil((riserM+t.EndSlackM)*(1+wastePct/100)-1e-9))
+		t.InsideRunM = ch.InsideM
+		t.InsideLengthM = math.Min(t.LengthM, math.Ceil(ch.InsideM*(1+wastePct/100)-1e-9))
 	}
 }
