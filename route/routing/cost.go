@@ -636,8 +636,42 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link, sh *shortest) (op
 			}
 			m.addOption(s, &dm, &info, med, other, false, -1, ex, oe)
 		}
+		dropOutpriced(&dm, &info, med, sh)
 	}
 	return dm, info
+}
+
+// dropOutpriced takes the first option of medium med out of dm when another option of the
+// medium may use every span it may, costs no more a metre (the same cables), and costs no
+// more on a route as long as the shortest between the link's ends (so on every longer one),
+// and reaches at least twice that: outside-plant cable spliced at the entrances on a long
+// link, whose enclosures the cheaper metre has paid for before the route is that long. The
+// first option would win only on a route longer than the other reaches, more than twice the
+// shortest; that is given up (a model simplification, no published source) to spare the
+// optimizer the searches of an option it would not choose.
+func dropOutpriced(dm *optimize.Demand, info *demandInfo, med string, sh *shortest) {
+	ai := slices.IndexFunc(dm.Options, func(o optimize.Option) bool { return o.Name == med })
+	if ai < 0 {
+		return
+	}
+	a := &dm.Options[ai]
+	far := -1.0
+	for _, b := range dm.Options {
+		if b.Name == med || optionMedium(b.Name) != med || b.ExcludeFlags&^a.ExcludeFlags != 0 || b.CablePerMCents > a.CablePerMCents ||
+			b.Cables != a.Cables || b.CableODMM != a.CableODMM {
+			continue
+		}
+		if far < 0 {
+			far = sh.betweenM(dm.Source, dm.Target)
+		}
+		if b.MaxRouteM < 2*far || float64(b.FixedCents+b.SecondLegCents)+float64(b.CablePerMCents)*far > float64(a.FixedCents+a.SecondLegCents)+float64(a.CablePerMCents)*far {
+			continue
+		}
+		info.excluded = append(info.excluded, fmt.Sprintf("%s: %s costs less on any route of the %.1f m of the shortest or longer", med, b.Name, far))
+		info.options = slices.DeleteFunc(info.options, func(n string) bool { return n == med })
+		dm.Options = slices.Delete(dm.Options, ai, ai+1)
+		return
+	}
 }
 
 // optionEnds is what every option of a demand takes whatever its route (demand).
