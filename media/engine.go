@@ -418,6 +418,7 @@ func (e *Engine) evaluate(c *candidate, l Link, at lengths, mi, ai, ki int, insi
 	f[fMedium].str = m.ID
 	f[fApplication].str = a.Name
 	f[fConstruction].str = k.ID
+	f[fCable].str = c.label()
 	f[fConstructionOutdoorRated].b = k.OutdoorRated
 	f[fConstructionListed].b = k.Listing != ""
 	f[fConstructionPlenumRated].b = k.PlenumRated

@@ -949,3 +949,20 @@ func TestLayingFor(t *testing.T) {
 		t.Errorf("no enclosure price: note %q", note)
 	}
 }
+
+// TestLossReasonNamesSplicedCable: a loss-budget rejection of outside-plant cable spliced at
+// the entrances names the spliced cable, whose two transition splices (ANSI/TIA-568.3-D
+// 0.3 dB each, from memory) are in the loss it quotes; it used to name the outside-plant
+// construction alone, as if it were laid all the way.
+func TestLossReasonNamesSplicedCable(t *testing.T) {
+	t.Parallel()
+	e := newEngine(t, nil, nil, EngineOptions{})
+	ch := e.Choose(Link{ID: "L", RouteM: 14000, RiserM: 30, SlackM: 10, RateGbps: 10, Outdoor: true, ConnectorPairs: 2, Strands: 12,
+		PathwayTypes: []string{"buried"}, InsideAM: 20, InsideBM: 20, Splices: 3})
+	if ch.Feasible {
+		t.Fatalf("feasible: %s; the test wants the spliced cable to miss its budget", ch.Reason)
+	}
+	if want := "on osp-loose-tube spliced to ofnr-riser at both entrances loses"; !strings.Contains(ch.Reason, want) {
+		t.Errorf("reason lacks %q: %s", want, ch.Reason)
+	}
+}
