@@ -613,12 +613,18 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link, sh *shortest) (op
 		base, perM := m.cableFor(med, rate, facts, endSlack)
 		var exclude uint64
 		var others []media.Laying // the layings of the classes the first option may not use, in class order
+		// Another laying's option is left out when no application at the rate on the medium
+		// reaches the shortest route (addOption): then none is looked for.
+		reaches := m.eng.LongestRangeM(med, rate)-riser-coils-endLoops-lateral >= sh.betweenM(dm.Source, dm.Target)
 		for _, c := range lay.classes {
 			switch {
 			case !m.allowed(s, med, rate, future, strands, c):
 				exclude |= lay.classBit[c]
 			case base.Construction != "" && !m.lays(med, base, info, c):
 				exclude |= lay.classBit[c]
+				if !reaches {
+					continue
+				}
 				if other, ok := m.layingFor(med, info, c); ok && other != base && !slices.Contains(others, other) {
 					others = append(others, other)
 				}
