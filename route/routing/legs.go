@@ -75,6 +75,10 @@ type Leg struct {
 	// splices between them, which the loss budget counts (see CableTakeoff).
 	Cable CableTakeoff
 
+	// Option is the optimizer's option the leg was routed in (optimize.Option.Name: its
+	// medium, and how it priced the cable when the medium has several; routing's optionName).
+	Option string
+
 	// Attenuators is the bill item of the attenuators a receiver needs on a channel below
 	// its application's least loss (receiver overload); empty when none.
 	Attenuators []media.Quantity
@@ -166,9 +170,10 @@ func isTurn(lay *layout, spans, e int) bool {
 }
 
 // fillLeg sets a leg's route and its medium from the rule engine on the route's own facts;
-// the estimate prices it (package estimate). built is where the plan builds handholes
-// (passesOf).
-func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, medium string, info demandInfo, built builtOn) {
+// the estimate prices it (package estimate). option is the optimizer's option the route is
+// for (optionName). built is where the plan builds handholes (passesOf).
+func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, option string, info demandInfo, built builtOn) {
+	leg.Option = option
 	if e, ok := lay.endEntry[leg.Link.To]; ok {
 		leg.EntranceTo = e.ID
 	}
@@ -256,6 +261,9 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, me
 	// The spans of the route drawn inside an end's building are inside it too.
 	facts.InsideAM += interiorM(s, leg.Link.To, ol)
 	facts.InsideBM += interiorM(s, leg.Link.From, ol)
+	for _, b := range leg.Crosses {
+		facts.CrossedInsideM += interiorM(s, b, ol)
+	}
 	facts.MaxEMI = emi
 	facts.Outdoor = outdoor
 	facts.Plenum = plenum
@@ -274,15 +282,15 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, me
 		return
 	}
 	leg.Feasible = true
-	leg.Cable.Fit(cm.eng.Catalog(), ch, s.RiserM(leg.Link.To), s.RiserM(leg.Link.From), cm.design.WastePct)
+	leg.Cable.Fit(cm.eng.Catalog(), ch, facts.InsideAM, facts.InsideBM, cm.design.WastePct)
 	leg.Medium, leg.Application, leg.Construction, leg.Inside = ch.Medium, ch.Application, ch.Construction, ch.Inside
 	leg.Losses = ch.Losses
 	if q, ok := ch.AttenuatorQuantity(); ok {
 		leg.Attenuators = []media.Quantity{q}
 	}
 	leg.WorstMarginDB = worstMargin(ch.Losses)
-	if ch.Medium != medium {
-		leg.Choice += fmt.Sprintf(" (the optimizer routed it for %s)", medium)
+	if ch.Medium != optionMedium(option) {
+		leg.Choice += fmt.Sprintf(" (the optimizer routed it for %s)", optionMedium(option))
 	}
 }
 
