@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"slices"
 	"strings"
+	"sync"
 
 	"github.com/paulmach/orb"
 
@@ -63,6 +64,23 @@ func (s Structure) Place(length func(m float64) string) string {
 // The legs through a structure at a junction are those whose spans meet there; through one
 // on a span, those on the span; through a pull point on a lateral, those pulled there.
 func StructuresOf(r *route.Result) ([]Structure, error) { return structuresOf(r, addedPullPoints(r)) }
+
+// structureList is a plan's added pull points (addedPullPoints) and its structures table
+// (StructuresOf), as the files that list them read them.
+type structureList struct {
+	pulls []pullPoint
+	all   []Structure
+}
+
+// structuresOnce finds r's structureList on its first call and returns it on every call:
+// Outputs finds it once for plan.gpkg and bom.xlsx, which may render side by side.
+func structuresOnce(r *route.Result) func() (structureList, error) {
+	return sync.OnceValues(func() (structureList, error) {
+		pulls := addedPullPoints(r)
+		all, err := structuresOf(r, pulls)
+		return structureList{pulls: pulls, all: all}, err
+	})
+}
 
 // structuresOf is StructuresOf given the plan's added pull points (addedPullPoints), for a
 // caller that has them already.
