@@ -203,11 +203,17 @@ type solver struct {
 	// Charges (Problem.Charges): the charges of edge e are chList[chStart[e]:chStart[e+1]]
 	// (nil without charges); chOn says whether the searches and the plan cost price them
 	// (not for the length objective). chargeHash is the set hash of the charges paid.
-	chStart    []int32
-	chList     []int32
-	chOn       bool
-	chFree     bool    // every charge is free to the searches (the open start)
-	kinds      []uint8 // edge → kindFixed | kindCharged | kindLimited (newSolver)
+	chStart []int32
+	chList  []int32
+	chOn    bool
+	chFree  bool    // every charge is free to the searches (the open start)
+	kinds   []uint8 // edge → kindFixed | kindCharged | kindLimited (newSolver)
+	// Deferred removals (state.go, settle): the demand removed last, -1 when none is
+	// pending, and the edges whose users still list it (pendMark == pendSt).
+	pendD      int
+	pendE      []int32
+	pendMark   []uint32
+	pendSt     uint32
 	chargeHash uint64
 	// Per charge: uses by the demand being scanned (chCnt, valid where chMark == chStamp;
 	// see scanCharges) and by the demand estimated in place (chSelf, where its st == selfSt);
@@ -251,6 +257,7 @@ func newSolver(p *Problem, opt Settings) *solver {
 		pen: make([]int64, ne), penOK: make([]bool, ne), penSt: make([]uint32, ne), self: make([]uint32, ne), own: make([]uint32, ne),
 		memos: make([]rerouteMemo, len(p.Demands)), qSt: make([]uint32, ne), qLevel: make([]uint8, ne),
 		selfSt: 1, ownSt: 1, // see endOwn
+		pendD: -1, pendSt: 1, pendMark: make([]uint32, ne),
 		warm: opt.Start,
 	}
 	if sv.maxRounds == 0 {
