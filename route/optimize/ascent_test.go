@@ -282,3 +282,25 @@ func TestAscentInvalidDemand(t *testing.T) {
 		t.Errorf("invalid demand: level %d, want -1", got)
 	}
 }
+
+// TestBoundTakesOptionsWhole: a link of two options, one with a cheap fixed part and a dear
+// cable (an indoor/outdoor cable), the other the other way round (outside-plant cable with
+// transition splices at both entrances), on one 50 m route of existing duct. The plan pays
+// the cheaper option whole, 0 + 50 × 1,000 = 50,000 cents; a bound of the cheapest fixed part
+// beside the cheapest cable per metre (0 + 50 × 100 = 5,000) is true but 90 % short. The
+// bound takes each option whole (optionLevels) and so proves the plan optimal. The dual
+// argument is Balakrishnan, Magnanti & Wong (1989), option by option.
+func TestBoundTakesOptionsWhole(t *testing.T) {
+	p := &Problem{Nodes: 2, Edges: []Edge{{ID: "duct", From: 0, To: 1, LengthM: 50}},
+		Demands: []Demand{{ID: "A-B", Source: 0, Target: 1, Options: []Option{
+			{Name: "indoor-outdoor", CablePerMCents: 1000},
+			{Name: "osp + transitions", CablePerMCents: 100, FixedCents: 60000},
+		}}}}
+	sol, err := Solve(p, Settings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if sol.TotalCents != 50000 || sol.LowerBoundCents != sol.TotalCents {
+		t.Errorf("plan %d, bound %d: want both 50000 (the cheaper option whole)", sol.TotalCents, sol.LowerBoundCents)
+	}
+}

@@ -77,8 +77,12 @@ type dualBound struct {
 	// used: the dual says they may pay), fullest first; wantBy the demands that priced each.
 	wanted []int32
 	wantBy map[int32][]int32
-	passes int   // passes completed
-	work   int64 // nodes and edges scanned
+	// optLevel is, for a demand of several options, each option's level: its cheapest leg
+	// under that option's own costs and the demand's prices (optionLevels); nil for a demand
+	// of one option, or without a level. -1 for an option that has no path.
+	optLevel [][]int64
+	passes   int   // passes completed
+	work     int64 // nodes and edges scanned
 }
 
 // legCost returns c_e^d, the cheapest of demand d's media on edge e (cable and labour cents),
@@ -138,9 +142,18 @@ func (sv *solver) freeLevel(d int) int64 {
 func (sv *solver) freeLevels() []int64 {
 	sv.initLegCosts()
 	free := make([]int64, len(sv.p.Demands))
+	sv.freeOpt = make([][]int64, len(sv.p.Demands))
 	for d := range free {
 		if sv.invalid[d] == "" {
 			free[d] = sv.freeLevel(d)
+			if n := len(sv.p.Demands[d].Options); n > 1 {
+				// Each option's own free level, for optionLevels: read here, before the ascent
+				// starts beside the solver, as the plain trees share the solver's scratch.
+				sv.freeOpt[d] = make([]int64, n)
+				for o := range n {
+					sv.freeOpt[d][o] = sv.costTree(sv.to[d], sv.optProf[d][o]).dist[sv.from[d]]
+				}
+			}
 		}
 	}
 	return free
@@ -276,7 +289,7 @@ func (sv *solver) ascendFrom(free []int64) *dualBound {
 				continue
 			}
 			if db.work > work {
-				return db.finish(nd)
+				return sv.optionLevels(db, ds).finish(nd)
 			}
 			for _, u := range db.uses[d] {
 				ds.add(u.edge, u.cents)
@@ -388,7 +401,50 @@ func (sv *solver) ascendFrom(free []int64) *dualBound {
 		}
 		db.passes = pass
 	}
-	return db.finish(nd)
+	return sv.optionLevels(db, ds).finish(nd)
+}
+
+// optionLevels sets db.optLevel: for each demand of several options with a level, each
+// option's cheapest leg under its own costs (cable and labour of that option, not the
+// cheapest of the demand's options that legCost reads) plus the prices the demand holds. The
+// dual's argument holds option by option: a plan that routes the demand in option o pays at
+// least o's fixed part and, per leg, o's costs along the path plus the demand's prices, and
+// the prices of all demands stay within the edges' budgets; so each option's level is a
+// bound for a plan that takes that option, and the plan's bound takes the cheapest option
+// whole (planBound), not the cheapest fixed part beside the cheapest costs per metre of
+// another option. A demand that holds no prices takes its options' free levels (read before
+// the ascent, freeLevels). Each option's level is at least the demand's level, as its costs
+// are at least legCost's.
+func (sv *solver) optionLevels(db *dualBound, ds *dualSearch) *dualBound {
+	nd := len(sv.p.Demands)
+	db.optLevel = make([][]int64, nd)
+	for d := range nd {
+		opts := sv.freeOpt[d]
+		if opts == nil || db.level[d] < 0 || sv.abandon.Load() {
+			continue
+		}
+		lv := slices.Clone(opts)
+		if len(db.uses[d]) > 0 {
+			for _, u := range db.uses[d] {
+				ds.add(u.edge, u.cents)
+			}
+			s, t := int32(sv.from[d]), int32(sv.to[d])
+			for o := range lv {
+				lv[o] = sv.optionRun(db, ds, sv.profCent[sv.optProf[d][o]], s, t)
+			}
+			for _, e := range ds.wl {
+				ds.w[e], ds.wOn[e] = 0, false
+			}
+			ds.wl = ds.wl[:0]
+		}
+		for o := range lv {
+			if lv[o] >= 0 {
+				lv[o] = max(lv[o], db.level[d]) // the same, but for the rounding of dualInf
+			}
+		}
+		db.optLevel[d] = lv
+	}
+	return db
 }
 
 // forcedPrices gives each single-leg demand, before any search, the whole budget left of the
@@ -567,7 +623,20 @@ func (sv *solver) planBound() int64 {
 		for o := range sv.p.Demands[d].Options {
 			fx = min(fx, sv.optionCents(d, o, legs))
 		}
-		b += fx + int64(legs)*db.level[d]
+		best := fx + int64(legs)*db.level[d]
+		if lv := db.optLevel[d]; lv != nil {
+			// The cheapest option whole (optionLevels); at least best, as each term is.
+			whole := int64(math.MaxInt64)
+			for o, l := range lv {
+				if l >= 0 {
+					whole = min(whole, sv.optionCents(d, o, legs)+int64(legs)*l)
+				}
+			}
+			if whole != math.MaxInt64 {
+				best = max(best, whole)
+			}
+		}
+		b += best
 	}
 	return b
 }
@@ -635,6 +704,48 @@ func (ds *dualSearch) pathTo(n *Network, v int32, buf []int32) []int32 {
 		}
 	}
 	return buf
+}
+
+// optionRun is dualRun over the costs of one option's profile (cents: profCent's row)
+// instead of legCost, from root until it pops goal: goal's distance, or -1.
+func (sv *solver) optionRun(db *dualBound, ds *dualSearch, cents []int64, root, goal int32) int64 {
+	n := sv.net
+	for _, v := range ds.touched {
+		ds.dist[v] = -1
+	}
+	ds.popped, ds.touched = ds.popped[:0], append(ds.touched[:0], root)
+	ds.h.reset()
+	ds.dist[root], ds.pred[root] = 0, -1
+	ds.h.push(0, root)
+	for ds.h.len() > 0 {
+		k, v := ds.h.pop()
+		if k > ds.dist[v] {
+			continue
+		}
+		if v == goal {
+			return k
+		}
+		db.work++
+		if !n.transit(v, int(root)) {
+			continue
+		}
+		for _, a := range n.adj[n.start[v]:n.start[v+1]] {
+			db.work++
+			c := cents[a.edge]
+			if c < 0 {
+				continue
+			}
+			nk := min(k+c+ds.w[a.edge], dualInf)
+			if dv := ds.dist[a.to]; dv < 0 || nk < dv {
+				if dv < 0 {
+					ds.touched = append(ds.touched, a.to)
+				}
+				ds.dist[a.to], ds.pred[a.to] = nk, a.edge
+				ds.h.push(nk, a.to)
+			}
+		}
+	}
+	return -1
 }
 
 // dualRun runs Dijkstra from root over demand d's edges weighted c_e^d + w_e^d (ds.w),

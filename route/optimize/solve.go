@@ -94,6 +94,7 @@ type solver struct {
 	profiles []profile
 	profBase [][]int64 // profile → edge → search weight (cents or mm), -1 when unusable
 	profCent [][]int64 // profile → edge → cable + labour cents, -1 when unusable
+	freeOpt  [][]int64 // demand → option → free level, for a demand of several options (freeLevels)
 	lenBase  [][]int64 // exclusion class → edge → mm, -1 when unusable
 	lenClass map[uint64]int
 	optProf  [][]int   // demand → option → profile
