@@ -195,6 +195,7 @@ type solver struct {
 	// trenchFree marks the existing edges whose first added duct an open move prices without
 	// its trench (nextDuctCents), as phantom does a proposed edge's FixedCents.
 	trenchFree []bool
+	trenchWork int       // estimates and reroutes spent on such moves (trenchBudget)
 	areas      []float64 // distinct cable cross-sections of the options, ascending, mm²
 	// Reroute memos (memo.go).
 	memos  []rerouteMemo
