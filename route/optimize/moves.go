@@ -829,12 +829,14 @@ func (sv *solver) openMoves() bool {
 
 // trenchBudget bounds, per demand per solve, the estimates and reroutes of open moves that
 // price added ducts' trenches free (openCand.trench); a move is not started once they are
-// spent. The generated 1,000-building campus spends 13,900 (8,600 estimates, 91 moves of
-// 5,250 reroutes), within the bound, so its plan is as without one; at 5,000 buildings
-// the moves would spend 397,000 (256,000 estimates, 519 moves) for a plan 0.5 % cheaper at
-// 62 % more CPU (153.7 against 94.6 s user), and with this bound spend 80,600 for 0.3 %
-// at about 5 % more (98.9 s).
-const trenchBudget = 16
+// spent. Unbounded, the generated 5,000-building plan spent 397,000 (256,000 estimates, 519
+// moves) for a plan 0.5 % cheaper at 62 % more CPU; with 12 it spends about 60,000, its plan
+// is 0.47 % cheaper than without these moves (189,131,606.79 against 190,026,638.54 USD) at
+// 1-2 % more CPU (GNU time side by side: 67.5 and 68.2 s user against 65.4 and 68.0). The
+// 1,000-building plan (13,900 unbounded) then costs 20,052,712.72 USD (16: 20,070,176.86;
+// 10: 20,165,646.09; 8: 20,473,655.00), below the 20,082,233.74 of a warm start from an
+// older plan.
+const trenchBudget = 12
 
 // maxBarren is, on problems too large for the perturbation phase (demands × proposed edges
 // above maxKickWork), the most estimates in a row that may find no saving before an open move
