@@ -30,8 +30,11 @@ import (
 //     each demand against the others' plan (an edge only it uses costs its full FixedCents, so
 //     leaving it saves that); close an opened edge (forbid it, reroute its users, keep if
 //     cheaper); open a run of proposed edges that some demand's unconstrained cheapest route
-//     uses (treat it as free, reroute the demands it may help, keep if cheaper); drop a paid
-//     charge (forbid its edges, reroute its users, keep if cheaper). Open moves are
+//     uses (treat it as free, reroute the demands it may help, keep if cheaper), or a run of
+//     existing edges on such routes whose next duct needs a trench no cable has paid yet
+//     (price that trench free the same way: the first added duct's trench is a fixed charge
+//     too, which no lone reroute pays, so a trunk's street would stay where the start put
+//     it); drop a paid charge (forbid its edges, reroute its users, keep if cheaper). Open moves are
 //     screened first by bounds and by an in-place estimate, and a failed move is not retried
 //     until a demand it involves changes route. A reroute is skipped when its memo shows that
 //     no edge its last searches read has become cheaper (memo.go): it would change nothing.
@@ -181,11 +184,20 @@ type solver struct {
 	// forcedOK.
 	forced   [][]int32
 	forcedOK []bool
-	// openCandidates' scratch: valid demands, demands per proposed edge, edge runs.
+	// openCandidates' scratch: valid demands, demands per proposed edge, edge runs; per
+	// existing edge whose next duct needs a trench, the demands whose cheapest route crosses it
+	// (trenchUsers, listed in trenchTouched), and that edge's runs.
 	valid                     []int32
 	optUsers                  [][]int32
 	candBuf, runBuf, wholeBuf []int32
-	areas                     []float64 // distinct cable cross-sections of the options, ascending, mm²
+	trenchUsers               [][]int32
+	trenchTouched             []int32
+	trenchRun, trenchWhole    []int32
+	// trenchFree marks the existing edges whose first added duct an open move prices without
+	// its trench (nextDuctCents), as phantom does a proposed edge's FixedCents.
+	trenchFree []bool
+	trenchWork int       // estimates and reroutes spent on such moves (trenchBudget)
+	areas      []float64 // distinct cable cross-sections of the options, ascending, mm²
 	// Reroute memos (memo.go).
 	memos  []rerouteMemo
 	epoch  uint64
@@ -253,7 +265,7 @@ func newSolver(p *Problem, opt Settings) *solver {
 		propIdx: make([]int32, ne), comps: map[uint64][]int{}, anchorSlot: make([]int32, max(p.Nodes, 0)),
 		failedClose: map[int32]uint64{}, failedOpen: map[string]uint64{}, failedSwap: map[[2]int32]uint64{}, estMemo: map[estKey]estRec{},
 		cap:    capacity{edges: p.Edges, fits: p.Fits},
-		forbid: make([]bool, ne), phantom: make([]bool, ne), blk: make([]uint32, ne),
+		forbid: make([]bool, ne), phantom: make([]bool, ne), trenchFree: make([]bool, ne), blk: make([]uint32, ne),
 		srch: newSearch[int64](net), rc: newRCSPScratch(net), ps: newPairScratch(net),
 		pen: make([]int64, ne), penOK: make([]bool, ne), penSt: make([]uint32, ne), self: make([]uint32, ne), own: make([]uint32, ne),
 		memos: make([]rerouteMemo, len(p.Demands)), qSt: make([]uint32, ne), qLevel: make([]uint8, ne),

@@ -447,10 +447,15 @@ func (sv *solver) ductsCents(e, k int) int64 {
 	return int64(ed.LaidDucts(k))*sv.ductCent[e] + sv.trenchCent[e]
 }
 
-// nextDuctCents is what one more added duct on edge e costs now.
+// nextDuctCents is what one more added duct on edge e costs now; without the trench while an
+// open move holds the edge's trench free (trenchFree).
 func (sv *solver) nextDuctCents(e int) int64 {
 	k := sv.st.added[e]
-	return sv.ductsCents(e, k+1) - sv.ductsCents(e, k)
+	c := sv.ductsCents(e, k+1) - sv.ductsCents(e, k)
+	if k == 0 && sv.trenchFree[e] {
+		c -= sv.trenchCent[e]
+	}
+	return c
 }
 
 // lastDuctCents is what the last added duct on edge e costs now (its trench too when it is
