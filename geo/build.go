@@ -47,7 +47,9 @@ const minCellM = 25.0
 //     several entrances, one on a pathway wins (lowest junction ID), else the shortest lateral.
 //  2. Via "footprint": a pathway end inside the footprint or within SnapM of its boundary; of
 //     several, the junction with the most spans, then the lowest ID.
-//  3. Via "lateral": the nearest point of any pathway within MaxLateralM of the footprint,
+//  3. Via "footprint" too: where a pathway drawn across the footprint (both ends outside it)
+//     crosses its boundary (wallDoors), every such place an entrance, never a point inside;
+//  4. Via "lateral": the nearest point of any pathway within MaxLateralM of the footprint,
 //     which becomes a junction (a vertex within SnapM of it that marks a place on the line is
 //     used instead, so short spans are not cut off); the lateral runs from the nearest point of
 //     the footprint boundary.
@@ -60,8 +62,10 @@ const minCellM = 25.0
 // Beside the Access, every way into a building is one of its Entrances: each declared
 // entrance on a pathway or within MaxLateralM of one (each off the pathways gets its own
 // counted lateral, and the place where it joins becomes a junction), and each pathway end on
-// the footprint; the lateral of 3 only when there is neither. A declared entrance beyond
+// the footprint; the wall crossings of 3, or the lateral of 4, only when there is neither. A declared entrance beyond
 // MaxLateralM of every pathway is a Warning when another entrance of its building reaches.
+// So is every duct or direct-buried pathway drawn across a footprint (through), and each
+// span records the buildings it runs beneath wall to wall (Span.Beneath).
 // Build also lists what meets at each junction (Meetings), the pathways inside each building
 // and whether routes may pass through it (Transit), warns about every pathway end that joins
 // nothing, and lists those ends' near misses (NearMisses). All problems come back
@@ -223,28 +227,34 @@ type builder struct {
 	errs         input.Problems
 	warns        []warnRec
 
-	proj    projector
-	parts   []part
-	segs    []segRef
-	segGrid *grid
-	pws     []int // scratch: pathway indices (through)
-	vtxGrid *grid
-	mem     []member
-	parent  []int
-	labeled []bool
-	splits  [][]int // per part
-	shared  []bool  // per vertex member: another line has a vertex at exactly its position
-	entIDs  []string
-	entMem  []int
-	entOn   []bool
-	feet    []footprint
-	plans   []accessPlan // per building, input order
-	doors   [][]door     // per building, input order: every way in
+	proj  projector
+	cellM float64 // the grids' cell size, in metres
+	// segsIndexed says segGrid already lists every segment as setup numbers them, and
+	// olines holds every line projected as setup would (overlaps made them on the same lines).
+	segsIndexed bool
+	olines      []oline
+	parts       []part
+	segs        []segRef
+	segGrid     *grid
+	pws         []int // scratch: pathway indices (through)
+	vtxGrid     *grid
+	mem         []member
+	parent      []int
+	labeled     []bool
+	splits      [][]int // per part
+	shared      []bool  // per vertex member: another line has a vertex at exactly its position
+	entIDs      []string
+	entMem      []int
+	entOn       []bool
+	feet        []footprint
+	plans       []accessPlan // per building, input order
+	doors       [][]door     // per building, input order: every way in
 
 	entries [][]entry // per part, kept junction positions
 	pieces  []piece
 	rep     map[int]orb.Point // root → junction point
 	cutIn   map[string][]int  // pathway ID → the buildings (index) where cutAtWalls cut an end of it
+	walled  map[int]bool      // buildings (index) entered where pathways drawn across them cross a wall (wallDoors)
 	parted  map[int][][]int   // building index → the members splitInside parted, per meeting point
 	ids     map[int]string    // root → junction ID
 	buf     []int32
@@ -363,28 +373,41 @@ func (b *builder) setup() {
 	b.proj = newProjector(bound)
 	lo, hi := b.proj.xy(bound.Min), b.proj.xy(bound.Max)
 	cell := math.Max(minCellM, math.Max(hi.x-lo.x, hi.y-lo.y)/1024)
-	b.segGrid, b.vtxGrid = newGrid(cell), newGrid(cell)
+	b.segGrid, b.vtxGrid, b.cellM = newGrid(cell), newGrid(cell), cell
+	b.overlaps()
+	c = b.c
 
 	var stack [][2]int // markKept's scratch
 	for pi, pw := range c.Pathways {
 		for k, src := range pw.Lines {
-			ls := make(orb.LineString, 0, len(src))
-			for _, p := range src {
-				if len(ls) == 0 || ls[len(ls)-1] != p {
-					ls = append(ls, p)
+			var pt part
+			if b.segsIndexed { // overlaps made this line, the same way
+				l := &b.olines[len(b.parts)]
+				pt = part{pw: pi, k: k, ll: l.ll, xy: l.xy, cum: l.cum, v0: len(b.mem), s0: len(b.segs)}
+			} else {
+				ls := make(orb.LineString, 0, len(src))
+				for _, p := range src {
+					if len(ls) == 0 || ls[len(ls)-1] != p {
+						ls = append(ls, p)
+					}
 				}
+				pt = part{pw: pi, k: k, ll: ls, xy: make([]vec, len(ls)), cum: make([]float64, len(ls)),
+					v0: len(b.mem), s0: len(b.segs)}
 			}
-			pt := part{pw: pi, k: k, ll: ls, xy: make([]vec, len(ls)), cum: make([]float64, len(ls)),
-				v0: len(b.mem), s0: len(b.segs)}
+			ls := pt.ll
 			for i, p := range ls {
-				pt.xy[i] = b.proj.xy(p)
-				if i > 0 {
-					pt.cum[i] = pt.cum[i-1] + pt.xy[i].dist(pt.xy[i-1])
+				if !b.segsIndexed {
+					pt.xy[i] = b.proj.xy(p)
+					if i > 0 {
+						pt.cum[i] = pt.cum[i-1] + pt.xy[i].dist(pt.xy[i-1])
+					}
 				}
 				b.newMember(member{part: len(b.parts), seg: i, ll: p, xy: pt.xy[i], kind: memVertex}, false)
 				b.vtxGrid.addPoint(pt.v0+i, pt.xy[i])
 				if i > 0 {
-					b.segGrid.addSeg(len(b.segs), pt.xy[i-1], pt.xy[i])
+					if !b.segsIndexed {
+						b.segGrid.addSeg(len(b.segs), pt.xy[i-1], pt.xy[i])
+					}
 					b.segs = append(b.segs, segRef{part: len(b.parts), i: i - 1})
 				}
 			}
@@ -398,6 +421,7 @@ func (b *builder) setup() {
 			b.parts = append(b.parts, pt)
 		}
 	}
+	b.olines = nil
 	b.shared = make([]bool, len(b.mem))
 	b.splits = make([][]int, len(b.parts))
 	b.feet = make([]footprint, len(c.Buildings))
@@ -707,6 +731,20 @@ func (b *builder) planAccess() {
 			b.plans[bi] = accessPlan{via: ViaFootprint, target: -1, cands: cands}
 			continue
 		}
+		if walls := b.wallDoors(f); len(walls) > 0 {
+			// A pathway drawn across the building (both ends outside): it is entered where
+			// the pathway crosses its wall, as at a pathway end on the footprint, never at a
+			// point inside it.
+			for _, m := range walls {
+				b.doors[bi] = append(b.doors[bi], door{via: ViaFootprint, target: m, entrance: -1})
+			}
+			b.plans[bi] = accessPlan{via: ViaFootprint, target: -1, cands: walls}
+			if b.walled == nil {
+				b.walled = make(map[int]bool)
+			}
+			b.walled[bi] = true
+			continue
+		}
 		lo, hi := f.lo.sub(vec{b.maxLat, b.maxLat}), f.hi.add(vec{b.maxLat, b.maxLat})
 		b.buf = b.segGrid.query(lo, hi, b.buf)
 		best := b.lateralPlace(f)
@@ -717,6 +755,37 @@ func (b *builder) planAccess() {
 		b.plans[bi] = accessPlan{via: ViaLateral, target: b.target(best.seg, best.t)}
 		b.doors[bi] = append(b.doors[bi], door{via: ViaLateral, target: b.plans[bi].target, entrance: -1})
 	}
+}
+
+// wallDoors lists, as members that must become junctions, every place where a pathway
+// crosses the boundary of footprint f (a ring's edge, holes included), in segment order: the
+// walls of a building that pathways are drawn across. A crossing within SnapM of a vertex
+// that marks a place on the line takes that vertex (target).
+func (b *builder) wallDoors(f *footprint) []int {
+	ids := b.segGrid.query(f.lo, f.hi, nil)
+	var out []int
+	for _, s := range ids {
+		sr := b.segs[s]
+		p := &b.parts[sr.part]
+		a, c := p.xy[sr.i], p.xy[sr.i+1]
+		var ts []float64
+		for _, poly := range f.rings {
+			for _, ring := range poly {
+				for k := 1; k < len(ring); k++ {
+					if t, _, ok := segIntersect(a, c, ring[k-1], ring[k]); ok {
+						ts = append(ts, t)
+					}
+				}
+			}
+		}
+		slices.Sort(ts)
+		for _, t := range slices.Compact(ts) {
+			if m := b.target(int(s), t); !slices.Contains(out, m) {
+				out = append(out, m)
+			}
+		}
+	}
+	return out
 }
 
 // footprintEnds lists the pathway ends inside footprint f or within SnapM of its boundary, as
@@ -1374,7 +1443,8 @@ func (b *builder) lateralTo(bi int, via string, r int, from orb.Point, has bool)
 	return 0, nil
 }
 
-// crossings warns about pathways that cross with no junction where they cross.
+// crossings warns about pathways, and lines of one pathway, that cross with no junction where
+// they cross.
 func (b *builder) crossings() {
 	type crossing struct {
 		pa, pb int // parts, pa's pathway id < pb's
@@ -1396,8 +1466,8 @@ func (b *builder) crossings() {
 			}
 			or := b.segs[o]
 			q := &b.parts[or.part]
-			if q.pw == p.pw {
-				continue
+			if or.part == sr.part {
+				continue // a line crossing itself
 			}
 			t, u, ok := segIntersect(a, c, q.xy[or.i], q.xy[or.i+1])
 			if !ok {
@@ -1408,7 +1478,7 @@ func (b *builder) crossings() {
 				continue
 			}
 			cr := crossing{pa: sr.part, pb: or.part, along: alongP, at: lerpLL(p.ll[sr.i], p.ll[sr.i+1], t)}
-			if b.c.Pathways[q.pw].ID < b.c.Pathways[p.pw].ID {
+			if qi, pi := b.c.Pathways[q.pw].ID, b.c.Pathways[p.pw].ID; qi < pi || (qi == pi && or.part < sr.part) {
 				cr = crossing{pa: or.part, pb: sr.part, along: alongQ, at: lerpLL(q.ll[or.i], q.ll[or.i+1], u)}
 			}
 			found = append(found, cr)
@@ -1434,6 +1504,12 @@ func (b *builder) crossings() {
 		pa, pb := b.c.Pathways[b.parts[cr.pa].pw], b.c.Pathways[b.parts[cr.pb].pw]
 		if b.cutOff(pa.ID, cr.at) || b.cutOff(pb.ID, cr.at) {
 			continue // on a stretch inside a building that cutAtWalls left off
+		}
+		if pa.ID == pb.ID { // two lines of one MultiLineString
+			b.warns = append(b.warns, warnRec{pa.Source, pa.ID, fmt.Sprintf(
+				"lines %d and %d of pathway %q cross at %s, %s with no shared vertex or structure; they are not joined there",
+				b.parts[cr.pa].k+1, b.parts[cr.pb].k+1, pa.ID, fmtLL(cr.at[0]), fmtLL(cr.at[1]))})
+			continue
 		}
 		b.warns = append(b.warns, warnRec{pa.Source, pa.ID, fmt.Sprintf(
 			"pathways %q and %q cross at %s, %s with no shared vertex or structure; they are not joined there",

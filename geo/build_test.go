@@ -30,6 +30,12 @@ func pw(id string, lines ...orb.LineString) Pathway {
 		SpareDucts: 1, DuctMM: DefaultDuctMM, EMI: EMINone, Group: id, Lines: lines}
 }
 
+// withSpare is p with n spare ducts.
+func withSpare(p Pathway, n int) Pathway {
+	p.SpareDucts = n
+	return p
+}
+
 // box is a square building of side 2h metres centred on (x, y).
 func box(id string, x, y, h float64) Building {
 	r := orb.Ring{at(x-h, y-h), at(x+h, y-h), at(x+h, y+h), at(x-h, y+h), at(x-h, y-h)}
@@ -138,10 +144,10 @@ func TestBuildNoding(t *testing.T) {
 			name: "parallel duct banks stay two spans",
 			c: Campus{Pathways: []Pathway{
 				pw("DB-A", ml(0, 0, 100, 0)),
-				pw("DB-B", ml(0, 0, 100, 0)),
+				withSpare(pw("DB-B", ml(0, 0, 100, 0)), 3), // the same line, other ducts: warned of, kept
 				pw("DB-C", ml(0, 0.2, 50, 5, 100, 0.2)),
 			}},
-			wantSpans: 3, wantJunctions: 2,
+			wantSpans: 3, wantJunctions: 2, wantWarnings: 1,
 			check: func(t *testing.T, n *Network) {
 				for _, s := range n.Spans {
 					if s.From != n.Spans[0].From || s.To != n.Spans[0].To {
@@ -399,9 +405,11 @@ func TestBuildAccess(t *testing.T) {
 			want: Access{Building: "B", Via: ViaLateral}, wantLateralM: 12, wantSpans: 2,
 		},
 		{
+			// entered where it crosses the wall (the west one, J0002), not at a junction
+			// inside: the trunk is cut at both walls
 			name: "pathway through the building",
 			c:    Campus{Buildings: []Building{box("B", 100, 0, 10)}, Pathways: []Pathway{trunk}},
-			want: Access{Building: "B", Via: ViaLateral}, wantSpans: 2,
+			want: Access{Building: "B", Via: ViaFootprint, Junction: "J0002"}, wantSpans: 3,
 		},
 	}
 	for _, tc := range cases {

@@ -85,16 +85,39 @@ type NearMiss struct {
 	// beyond.
 	DistanceM float64
 	SnapM     float64
+	// For a structure missed (Kind KindStructure): its type, and the pathways the end joins
+	// instead (sorted; none when it dangles).
+	StructureType string
+	Joins         []string
 }
+
+// structureMissFactor times SnapM is how far from a structure a pathway end that does not
+// join it is a near miss, whether or not the end joins something else: a structure is a point
+// in the file but a box of 1 to 2 m in the ground, and a GIS office draws ducts to its wall
+// (common practice, no published source).
+const structureMissFactor = 4
 
 // String says what was missed and by how much, e.g. "pathway D-12 ends 0.8 m from pathway
 // T-3, beyond snap_m 0.5".
 func (m NearMiss) String() string {
+	if m.Kind == KindStructure {
+		instead := ""
+		if len(m.Joins) > 0 {
+			instead = "; it joins pathway " + strings.Join(m.Joins, " and ") + " there instead"
+		}
+		return fmt.Sprintf("pathway %s ends %s m from %s %s, beyond snap_m %s%s (drawn to its wall? snap_m %s would join it)",
+			m.Pathway, fmtBeyond(m.DistanceM, m.SnapM), m.StructureType, m.Target, fmtM(m.SnapM), instead, snapToJoin(m.DistanceM))
+	}
 	what := "pathway"
 	if m.Kind == KindBuilding {
 		what = "the footprint of building"
 	}
 	return fmt.Sprintf("pathway %s ends %s m from %s %s, beyond snap_m %s", m.Pathway, fmtBeyond(m.DistanceM, m.SnapM), what, m.Target, fmtM(m.SnapM))
+}
+
+// snapToJoin is the snap_m, in whole tenths of a metre, that takes in distance d.
+func snapToJoin(d float64) string {
+	return strconv.FormatFloat(math.Ceil(d*10-1e-9)/10, 'f', 1, 64)
 }
 
 // fmtBeyond prints distance d with one decimal, or as many more (up to three) as it takes not
@@ -437,26 +460,51 @@ func built(n *Network, at map[string]int) {
 // the telecom room enters once and is not warned of; a trench drawn across a building, or
 // into it and out again to an entrance, is, with the metres inside (projected). The plan
 // still prices those metres as new work: only the campus's author can say where it goes.
-func (b *builder) through(id string, f *footprint, pws []int, partsOf [][2]int) {
+//
+// An existing duct or direct-buried pathway drawn so (a duct drawn schematically straight
+// across a building, an old duct under a newer wing, a service duct run on through a wing to
+// a courtyard) is warned of too: the cable pulled along it passes under the building in the
+// duct, which only the campus's author can confirm. walled says the building is entered
+// where such pathways cross its wall (wallDoors), which the warning then says.
+//
+// It returns, in b.pws, the pathways (index) that run inside f for more than SnapM so.
+func (b *builder) through(id string, f *footprint, pws []int, partsOf [][2]int, walled bool) {
 	b.pws = b.pws[:0]
 	for _, pw := range pws {
-		if p := &b.c.Pathways[pw]; p.Status == StatusProposed && p.Type != TypeTray && p.Type != TypeAerial {
+		p := &b.c.Pathways[pw]
+		if p.Status == StatusProposed && p.Type != TypeTray && p.Type != TypeAerial ||
+			p.Status != StatusProposed && (p.Type == TypeDuct || p.Type == TypeBuried) {
 			b.pws = append(b.pws, pw)
 		}
 	}
 	slices.Sort(b.pws)
-	for _, pw := range slices.Compact(b.pws) {
+	b.pws = slices.Compact(b.pws)
+	passing := b.pws[:0]
+	for _, pw := range b.pws {
 		p := &b.c.Pathways[pw]
 		var inM float64
 		for q := partsOf[pw][0]; q < partsOf[pw][1]; q++ {
 			inM += f.passedM(&b.parts[q])
 		}
-		if inM > b.snap {
+		if inM <= b.snap {
+			continue
+		}
+		passing = append(passing, pw)
+		if p.Status == StatusProposed {
 			b.warns = append(b.warns, warnRec{p.Source, p.ID, fmt.Sprintf(
 				"proposed pathway %q runs %.1f m inside the footprint of building %q, not only to its wall: new work there is priced as if dug outside; draw it around the building, or to the wall where it enters",
 				p.ID, inM, id)})
+			continue
 		}
+		entered := ""
+		if walled {
+			entered = fmt.Sprintf(" building %q is entered where it crosses the wall;", id)
+		}
+		b.warns = append(b.warns, warnRec{p.Source, p.ID, fmt.Sprintf(
+			"existing pathway %q runs %.1f m inside the footprint of building %q, not only to its wall: routes along it pass beneath the building, and those metres count as outside plant;%s check that it runs there, or draw it around the building, or to the wall where it enters",
+			p.ID, inM, id, entered)})
 	}
+	b.pws = passing
 }
 
 // passedM is the projected length of part p inside footprint f, less the stretches from an
@@ -503,6 +551,17 @@ func (b *builder) transit(n *Network) {
 		}
 		partsOf[p.pw][1] = q + 1
 	}
+	spansOf := make(map[string][]int) // pathway ID → its spans (index)
+	for i, s := range n.Spans {
+		if s.Type == TypeDuct || s.Type == TypeBuried {
+			spansOf[s.PathwayID] = append(spansOf[s.PathwayID], i)
+		}
+	}
+	type under struct {
+		building string
+		alongM   float64 // where the span enters the footprint, from its From end
+	}
+	beneath := make(map[int][]under)
 	for bi, bl := range b.c.Buildings {
 		t := Transit{Building: bl.ID, Marked: bl.Transit}
 		f := &b.feet[bi]
@@ -519,7 +578,14 @@ func (b *builder) transit(n *Network) {
 					t.Interior = append(t.Interior, b.c.Pathways[pw].ID)
 				}
 			}
-			b.through(bl.ID, f, pws, partsOf)
+			b.through(bl.ID, f, pws, partsOf, b.walled[bi])
+			for _, pw := range b.pws { // a span passes beneath only where its pathway does
+				for _, si := range spansOf[b.c.Pathways[pw].ID] {
+					if at, ok := b.passesBeneath(f, n.Spans[si].Line); ok {
+						beneath[si] = append(beneath[si], under{bl.ID, at})
+					}
+				}
+			}
 		}
 		sort.Strings(t.Interior)
 		for _, rs := range b.parted[bi] {
@@ -535,6 +601,63 @@ func (b *builder) transit(n *Network) {
 		n.Transit = append(n.Transit, t)
 	}
 	sort.Slice(n.Transit, func(i, j int) bool { return n.Transit[i].Building < n.Transit[j].Building })
+	for si, us := range beneath {
+		slices.SortFunc(us, func(x, y under) int {
+			return cmp.Or(cmp.Compare(x.alongM, y.alongM), strings.Compare(x.building, y.building))
+		})
+		for _, u := range us {
+			n.Spans[si].Beneath = append(n.Spans[si].Beneath, u.building)
+		}
+	}
+}
+
+// passesBeneath reports whether line (a span's, lon/lat) runs across footprint f for more
+// than SnapM (projected) in stretches that begin and end at its boundary, not at an end of the
+// line inside it, and where along the line (projected metres from its first point) the first
+// such stretch begins.
+func (b *builder) passesBeneath(f *footprint, line orb.LineString) (float64, bool) {
+	if len(line) < 2 {
+		return 0, false
+	}
+	xy := make([]vec, len(line))
+	for i, p := range line {
+		xy[i] = b.proj.xy(p)
+	}
+	deep := func(p vec) bool { // an end more than SnapM inside the footprint
+		if !f.contains(p) {
+			return false
+		}
+		_, d := f.nearestBoundary(p)
+		return d > b.snap
+	}
+	first, last := deep(xy[0]), deep(xy[len(xy)-1])
+	type stretch struct{ from, to float64 }
+	var in []stretch
+	cum := 0.0
+	for i := 1; i < len(xy); i++ {
+		l := xy[i].dist(xy[i-1])
+		f.insideParts(xy[i-1], xy[i], nil, func(t0, t1 float64) {
+			from, to := cum+t0*l, cum+t1*l
+			if k := len(in); k > 0 && from-in[k-1].to <= 1e-9 {
+				in[k-1].to = to
+				return
+			}
+			in = append(in, stretch{from, to})
+		})
+		cum += l
+	}
+	var m, at float64
+	found := false
+	for k, s := range in {
+		if (k == 0 && first && s.from <= 1e-9) || (k == len(in)-1 && last && s.to >= cum-1e-9) {
+			continue
+		}
+		if !found {
+			at, found = s.from, true
+		}
+		m += s.to - s.from
+	}
+	return at, found && m > b.snap
 }
 
 // inside reports whether the pathway made of parts r[0]..r[1]-1 lies inside footprint f.
@@ -624,6 +747,7 @@ func (b *builder) dangling(n *Network) {
 			n.NearMisses = append(n.NearMisses, b.nearMisses(pi, v, id)...)
 		}
 	}
+	n.NearMisses = append(n.NearMisses, b.structureMisses(n)...)
 	sort.SliceStable(n.NearMisses, func(i, j int) bool {
 		x, y := n.NearMisses[i], n.NearMisses[j]
 		if x.Pathway != y.Pathway {
@@ -686,6 +810,81 @@ func (b *builder) nearMisses(pi, v int, id string) []NearMiss {
 			m.Kind, m.Target, m.At, m.DistanceM = KindBuilding, bl.ID, at, DistanceM(end, at)
 			out = append(out, m)
 		}
+	}
+	return out
+}
+
+// structureMisses lists every pathway end within structureMissFactor×SnapM of a structure
+// it does not join, beyond SnapM: one that dangles, or one that joins another pathway there
+// (a duct bank's line ending short of the maintenance hole taps the cross street instead).
+// A structure joined to the end's own line elsewhere (a line run on past it) is not one. When
+// two or more ends miss structures so, one Warning names the snap_m that would join them all.
+func (b *builder) structureMisses(n *Network) []NearMiss {
+	if len(b.c.Structures) == 0 {
+		return nil
+	}
+	r := structureMissFactor * b.snap
+	g := newGrid(b.cellM)
+	xys := make([]vec, len(b.c.Structures))
+	for si, st := range b.c.Structures {
+		xys[si] = b.proj.xy(st.Point)
+		g.addPoint(si, xys[si])
+	}
+	root := make([]int, len(b.c.Structures)) // the structure's junction root
+	for i, m := range b.mem {
+		if m.kind == memStructure {
+			root[m.ref] = b.find(i)
+		}
+	}
+	var out []NearMiss
+	var ids []int32
+	for pi := range b.parts {
+		p := &b.parts[pi]
+		var onLine map[int]bool // the roots along this line, when a structure is near an end
+		for _, v := range [2]int{0, len(p.xy) - 1} {
+			lo, hi := around(p.xy[v], r)
+			ids = g.query(lo, hi, ids)
+			er := b.find(p.v0 + v)
+			for _, s := range ids {
+				si := int(s)
+				if d := p.xy[v].dist(xys[si]); d <= b.snap || d > r || root[si] == er {
+					continue
+				}
+				if onLine == nil {
+					onLine = make(map[int]bool)
+					for _, e := range b.entries[pi] {
+						onLine[b.find(e.m)] = true
+					}
+				}
+				if onLine[root[si]] {
+					continue
+				}
+				st, pw := b.c.Structures[si], b.c.Pathways[p.pw]
+				m := NearMiss{Pathway: pw.ID, Source: pw.Source, Junction: b.ids[er], End: p.ll[v], Kind: KindStructure,
+					Target: st.ID, At: st.Point, DistanceM: DistanceM(p.ll[v], st.Point), SnapM: b.snap, StructureType: st.Type}
+				if mt, ok := n.MeetingAt(m.Junction); ok && m.Junction != "" {
+					for _, other := range mt.Pathways {
+						if other != pw.ID && !slices.Contains(m.Joins, other) {
+							m.Joins = append(m.Joins, other)
+						}
+					}
+					slices.Sort(m.Joins)
+				}
+				out = append(out, m)
+			}
+		}
+	}
+	if len(out) >= 2 {
+		far, first := 0.0, out[0]
+		for _, m := range out {
+			far = max(far, m.DistanceM)
+			if m.Pathway < first.Pathway {
+				first = m
+			}
+		}
+		b.warns = append(b.warns, warnRec{first.Source, first.Pathway, fmt.Sprintf(
+			"%d pathway ends lie beyond snap_m %s but within %s m of a structure they do not join (see the near misses): if the lines are drawn to the structures' walls rather than their points, snap_m %s would join them",
+			len(out), fmtM(b.snap), fmtBeyond(far, b.snap), snapToJoin(far))})
 	}
 	return out
 }

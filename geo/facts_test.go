@@ -4,6 +4,7 @@ import (
 	"errors"
 	"math"
 	"reflect"
+	"slices"
 	"strings"
 	"testing"
 
@@ -349,5 +350,63 @@ func TestRunsAtSplitPathway(t *testing.T) {
 		if got, ok := n.PassAt(junctionAt(t, n, 0, 100), tc.from, tc.to); !ok || got != tc.want {
 			t.Errorf("%s: %s → %s: got %q %v, want %q", tc.name, tc.from, tc.to, got, ok, tc.want)
 		}
+	}
+}
+
+// TestStructureNearMiss: a structure is a point in the file and a box of 1 to 2 m in the
+// ground, and a GIS office draws ducts to its wall (tester 7's finding 3). A line ending
+// 0.6 m from a maintenance hole that taps the cross street there instead, and one ending
+// 0.75 m from a handhole joined to nothing, are each a near miss naming the structure and
+// the snap_m that would join it; with two such, one warning names that snap_m. A line run on
+// past a structure joined to it is no near miss, nor is an end within snap_m (joined). The
+// snap is not changed: the bank line still taps the cross street.
+func TestStructureNearMiss(t *testing.T) {
+	t.Parallel()
+	c := &Campus{
+		Pathways: []Pathway{
+			pw("C", ml(100, -50, 100, 50)),    // the cross street, through MH-1 and HH-2
+			pw("D", ml(0, 0.6, 100, 0.6)),     // ends on C, 0.6 m from MH-1
+			pw("E", ml(200, 30, 100.75, 30)),  // ends 0.75 m from HH-2 (and from C)
+			pw("F", ml(0, -30, 101, -30)),     // runs on 1.5 m past MH-3, which is on it
+			pw("G", ml(100, -50, 150, -50.3)), // ends 0.3 m from HH-4: joined
+		},
+		Structures: []Structure{
+			{ID: "MH-1", Type: "maintenance-hole", Point: at(100, 0)},
+			{ID: "HH-2", Type: "handhole", Point: at(100, 30)},
+			{ID: "MH-3", Type: "maintenance-hole", Point: at(99.5, -30)},
+			{ID: "HH-4", Type: "handhole", Point: at(150, -50)},
+		},
+	}
+	n := build(t, c)
+	var got []NearMiss
+	for _, m := range n.NearMisses {
+		if m.Kind == KindStructure {
+			got = append(got, m)
+		}
+	}
+	if len(got) != 2 {
+		t.Fatalf("structure near misses %v, want D → MH-1 and E → HH-2", got)
+	}
+	d, e := got[0], got[1]
+	if d.Pathway != "D" || d.Target != "MH-1" || !slices.Equal(d.Joins, []string{"C"}) || math.Abs(d.DistanceM-0.6) > 0.01 {
+		t.Errorf("got %+v, want D 0.6 m from MH-1, joining C", d)
+	}
+	if want := "pathway D ends 0.6 m from maintenance-hole MH-1, beyond snap_m 0.5; it joins pathway C there instead (drawn to its wall? snap_m 0.7 would join it)"; d.String() != want {
+		t.Errorf("got %q, want %q", d.String(), want)
+	}
+	if e.Pathway != "E" || e.Target != "HH-2" || len(e.Joins) != 0 || !strings.Contains(e.String(), "handhole HH-2") {
+		t.Errorf("got %+v (%s), want E 0.75 m from HH-2, joined to nothing", e, e)
+	}
+	if m, ok := n.MeetingAt("MH-1"); !ok || slices.Contains(m.Pathways, "D") {
+		t.Errorf("MH-1 meets %v: D must not be joined to it at snap_m 0.5", m.Pathways)
+	}
+	var ws []string
+	for _, w := range n.Warnings {
+		if strings.Contains(w.Message, "of a structure they do not join") {
+			ws = append(ws, w.Message)
+		}
+	}
+	if len(ws) != 1 || !strings.Contains(ws[0], "2 pathway ends") || !strings.Contains(ws[0], "snap_m 0.8 would join them") {
+		t.Errorf("warnings %q, want one naming 2 ends and snap_m 0.8", ws)
 	}
 }

@@ -244,6 +244,10 @@ type loader struct {
 	// idDiffers are the features whose id member differs from their id property, in the
 	// order read (idWarnings).
 	idDiffers []idDiff
+	// blanks are the properties given as "" that took their default, by file, kind and
+	// property in the order first met (blankWarnings); blankAt indexes them.
+	blanks  []blankUse
+	blankAt map[string]int
 }
 
 // idDiff is a feature whose Feature "id" member (as a message prints it) differs from its
@@ -333,6 +337,7 @@ func (l *loader) finish() (*Campus, error) {
 	c := l.c
 	c.sortFeatures()
 	l.idWarnings()
+	l.blankWarnings()
 	c.warns = append(slices.Clone(l.warns), sameFootprints(c.Buildings)...)
 	return &c, nil
 }
@@ -570,6 +575,7 @@ type feature struct {
 	l     *loader
 	src   Source
 	id    string
+	kind  string // set once check has decided it: blankDefaults names it
 	props map[string]any
 }
 
@@ -658,6 +664,7 @@ func (f *feature) check(member any, geom orb.Geometry, gerr error, tableKind str
 	if gerr != nil {
 		f.add("geometry", gerr)
 	}
+	f.kind = kind
 	switch kind {
 	case KindBuilding:
 		f.building(geom, gerr == nil)
@@ -938,10 +945,62 @@ func (f *feature) entrance(g orb.Geometry, ok bool) {
 // meaning (the default), and a property that is required says "missing" of it (emptyNote).
 func (f *feature) given(key string) (any, bool) {
 	v := f.props[key]
+	if v == "" && blankDefaults[key] {
+		f.l.noteBlank(f, key)
+	}
 	if v == nil || v == "" {
 		return nil, false
 	}
 	return v, true
+}
+
+// blankDefaults are the properties whose default the plan prices or routes by (a pathway's
+// type, status, ducts, EMI, surface and method; a building's riser): given as "" (a shapefile's
+// empty text field, which may mean "unknown"), each takes its default as if absent, and
+// blankWarnings says so once per file, kind and property, so that a blank status taken as
+// existing duct is never silent. Name, group, role, plenum and transit are left out: their
+// default (none, own id, no role, false, may pass) is what a blank means. Common practice, no
+// published source.
+var blankDefaults = map[string]bool{
+	PropType: true, PropStatus: true, PropSpareDucts: true, PropDuctMM: true, PropEMI: true,
+	PropSurface: true, PropMethod: true, PropRiserM: true,
+}
+
+// blankUse is the first feature of one file and kind that gave property key as "", and how
+// many did.
+type blankUse struct {
+	src      Source
+	id, kind string
+	key      string
+	n        int
+}
+
+// noteBlank counts feature f giving property key as "" (blankDefaults).
+// noteBlank counts f giving property key as "" (blankDefaults).
+func (l *loader) noteBlank(f *feature, key string) {
+	k := f.src.File + "\x00" + f.kind + "\x00" + key
+	if i, ok := l.blankAt[k]; ok {
+		l.blanks[i].n++
+		return
+	}
+	if l.blankAt == nil {
+		l.blankAt = map[string]int{}
+	}
+	l.blankAt[k] = len(l.blanks)
+	l.blanks = append(l.blanks, blankUse{src: f.src, id: f.id, kind: f.kind, key: key, n: 1})
+}
+
+// blankWarnings warns, on the first such feature, of each file, kind and property given as
+// "" that took its default.
+func (l *loader) blankWarnings() {
+	for _, b := range l.blanks {
+		what := "this feature gives"
+		if b.n > 1 {
+			what = fmt.Sprintf("%s of this file give", input.Counted(b.n, b.kind, b.kind+"s"))
+		}
+		l.warn(b.src, b.id, fmt.Sprintf("%s %q as an empty string, taken as absent: %s; give the value if that is not what the drawing means",
+			what, b.key, blankDefaultText(b.kind, b.key)))
+	}
 }
 
 // emptyNote is " (an empty string counts as missing)" when property key is "", for the
@@ -1472,4 +1531,31 @@ func multiPolygon(v any) (orb.MultiPolygon, error) {
 		mp = append(mp, p)
 	}
 	return mp, nil
+}
+
+// blankDefaultText says what a property given as "" on a feature of kind is taken as: its
+// default, as the reading applies it.
+func blankDefaultText(kind, key string) string {
+	switch key {
+	case PropType:
+		if kind == KindPathway {
+			return fmt.Sprintf("type %q", TypeDuct)
+		}
+		return "no type"
+	case PropStatus:
+		return fmt.Sprintf("status %q (no new work is priced on it)", StatusExisting)
+	case PropSpareDucts:
+		return fmt.Sprintf("%d spare duct", DefaultSpareDucts)
+	case PropDuctMM:
+		return fmt.Sprintf("ducts of %g mm", DefaultDuctMM)
+	case PropEMI:
+		return fmt.Sprintf("emi %q", EMINone)
+	case PropSurface:
+		return "no surface (new trench priced on the design's assumed surface)"
+	case PropMethod:
+		return fmt.Sprintf("method %q", MethodTrench)
+	case PropRiserM:
+		return fmt.Sprintf("a riser of %g m", DefaultRiserM)
+	}
+	return "its default"
 }

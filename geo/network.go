@@ -57,6 +57,12 @@ type Span struct {
 	// (0 is straight on, 90 a right-angle turn).
 	BendsDeg []float64
 	Line     orb.LineString // From → To
+	// Beneath lists, in order from From to To, the buildings whose footprint the span runs
+	// across for more than SnapM from wall to wall (a duct or direct-buried pathway drawn
+	// under a building, or across it where it is entered at the walls): a route along the
+	// span passes beneath them. A stretch from an end of the span inside a footprint is not
+	// counted (the way in to a room).
+	Beneath []string
 	// near holds, for the From and the To end, how many vertices in from that end is the
 	// first vertex that the line simplified within BendToleranceM keeps (bendsDeg); 0 for a
 	// span not made by Build, taken as 1 (AwayFrom).

@@ -305,6 +305,20 @@ func (g *grid) query(lo, hi vec, out []int32) []int32 {
 	return out[:w]
 }
 
+// visit calls fn with each item listed in a cell touching the box lo..hi, in no set order and
+// once per cell it is listed in (query without the sort; the caller drops repeats).
+func (g *grid) visit(lo, hi vec, fn func(id int32)) {
+	ix0, ix1 := max(g.idx(lo.x), g.lo[0]), min(g.idx(hi.x), g.hi[0])
+	iy0, iy1 := max(g.idx(lo.y), g.lo[1]), min(g.idx(hi.y), g.hi[1])
+	for ix := ix0; ix <= ix1; ix++ {
+		for iy := iy0; iy <= iy1; iy++ {
+			for _, id := range g.cells[[2]int32{ix, iy}] {
+				fn(id)
+			}
+		}
+	}
+}
+
 // around returns the box of radius r around p.
 func around(p vec, r float64) (vec, vec) {
 	return vec{p.x - r, p.y - r}, vec{p.x + r, p.y + r}

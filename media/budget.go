@@ -157,8 +157,9 @@ func longestRange(reaches []Reach) float64 {
 // on medium m may change feasibility through its loss budget: where the budget closes with
 // every count of repair splices up to the application's reach, where the repair count steps,
 // where the channel reaches the receiver's minimum loss and where an attenuator's loss closes
-// the budget.
-func (e *Engine) budgetPoints(points []float64, l Link, a *Application, m *Medium, reaches []Reach) []float64 {
+// the budget; of the laying lay's construction, with or without its transition, when lay
+// names one.
+func (e *Engine) budgetPoints(points []float64, l Link, a *Application, m *Medium, reaches []Reach, lay Laying) []float64 {
 	if !m.Fibre() {
 		return points
 	}
@@ -173,7 +174,13 @@ func (e *Engine) budgetPoints(points []float64, l Link, a *Application, m *Mediu
 		atts = append(atts, e.attenuators...)
 	}
 	for _, k := range m.Constructions {
+		if lay.Construction != "" && k.ID != lay.Construction {
+			continue
+		}
 		for _, extra := range []int{0, 2} { // without and with an entrance transition
+			if lay.Construction != "" && (extra == 2) != (lay.Inside != "") {
+				continue
+			}
 			splices := l.Splices + e.termSplices(m) + extra
 			for _, nm := range a.WavelengthsNM {
 				at, _ := k.AttenDBPerKm(nm)

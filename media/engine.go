@@ -270,8 +270,8 @@ func (c *candidate) label() string {
 // transitionInside is the listed construction a transition candidate of construction k
 // would splice to at each entrance, or nil when the link and the book allow no transition:
 // fibre only, outside-plant cable (outdoor rated, unlisted) on a route that leaves the
-// buildings over no tray and no plenum, risers to run inside, and the book pricing the
-// entrance splice enclosure (transition_splice_each).
+// buildings through no plenum and runs inside no building but its ends, risers to run
+// inside, and the book pricing the entrance splice enclosure (transition_splice_each).
 func (e *Engine) transitionInside(l Link, m *Medium, k *Construction, strands int) *Construction {
 	if !transitionFits(l, m, k) {
 		return nil
@@ -284,11 +284,22 @@ func (e *Engine) transitionInside(l Link, m *Medium, k *Construction, strands in
 }
 
 // transitionFits reports whether construction k of medium m could be spliced to inside cable
-// at the link's entrances, prices aside: an unlisted outdoor fibre construction on an outdoor
-// link with risers, no plenum and no tray.
+// at the link's entrances, prices aside: an unlisted outdoor fibre construction of a medium
+// on a link that may have one (transitionLink).
 func transitionFits(l Link, m *Medium, k *Construction) bool {
-	return m.Fibre() && l.Outdoor && !l.Plenum && l.RiserM > 0 && k.OutdoorRated && k.Listing == "" &&
-		!slices.Contains(l.PathwayTypes, "tray")
+	return m.Fibre() && transitionLink(l) && k.OutdoorRated && k.Listing == ""
+}
+
+// transitionLink reports whether a link may have an entrance transition at all: it leaves the
+// buildings, has risers to run inside, passes through no plenum and runs inside no building
+// but its ends. The inside cable takes everything inside the end buildings, in-building trays
+// and tunnels included (Link.transitionInsideM), as installers splice outside-plant cable to
+// riser or plenum cable at the entrance and run that through the building's pathways (NFPA 70
+// 770.48, seen as fragment: unlisted cable ends within 15 m of the point of entrance). A
+// plenum would need the outside part plenum rated too on these facts, which do not say where
+// the plenum is; a building the route passes through would need splices of its own.
+func transitionLink(l Link) bool {
+	return l.Outdoor && !l.Plenum && l.RiserM > 0 && l.CrossedInsideM == 0
 }
 
 // variants lists the candidates of construction k of medium m for application a: the
@@ -374,7 +385,7 @@ func (e *Engine) evaluate(c *candidate, l Link, at lengths, mi, ai, ki int, insi
 		lossK: k, splices: l.Splices + e.termSplices(m), prefer: prefer}
 	if inside != nil {
 		c.inside, c.splices = inside, c.splices+2
-		c.lossK = blend(k, inside, l.RiserM, channel)
+		c.lossK = blend(k, inside, l.transitionInsideM(channel), channel)
 	}
 	c.repair = e.repairSplices(m, outsideM(l, at))
 	c.b = e.budgetFor(c.lossK, a, e.reachesOn(a, m), channel, l.ConnectorPairs, c.splices, e.requiredMarginDB(m, c.repair))
@@ -407,6 +418,7 @@ func (e *Engine) evaluate(c *candidate, l Link, at lengths, mi, ai, ki int, insi
 	f[fMedium].str = m.ID
 	f[fApplication].str = a.Name
 	f[fConstruction].str = k.ID
+	f[fCable].str = c.label()
 	f[fConstructionOutdoorRated].b = k.OutdoorRated
 	f[fConstructionListed].b = k.Listing != ""
 	f[fConstructionPlenumRated].b = k.PlenumRated
@@ -459,7 +471,7 @@ func (e *Engine) evaluate(c *candidate, l Link, at lengths, mi, ai, ki int, insi
 		}
 	}
 	if c.failed < 0 {
-		c.cableCents, c.costCents = e.cost(c, channel, l.RiserM)
+		c.cableCents, c.costCents = e.cost(c, channel, l.transitionInsideM(channel))
 	}
 }
 
@@ -521,30 +533,55 @@ func (e *Engine) future(l Link, c *candidate) {
 // for copper) at each end, and one transceiver at each end. Two transceivers serve the link
 // whether the PHY is duplex (2 fibres) or parallel (8 fibres in one module each end).
 // Labour, pathway and enclosures are not part of it.
-func (e *Engine) cost(c *candidate, channelM float64, riserM float64) (cableCents, totalCents int64) {
-	size, n := c.k.Fit(c.strands)
-	perM, _ := e.prices.Price(PriceKey{Item: PriceCable, Medium: c.m.ID, Construction: c.k.ID, Count: size.Count})
+func (e *Engine) cost(c *candidate, channelM float64, insideM float64) (cableCents, totalCents int64) {
+	p := e.layingPrice(c.m, c.k, c.inside, c.strands)
 	term, _ := e.prices.Price(PriceKey{Item: PriceTermination, Medium: c.m.ID})
 	trx, _ := e.prices.Price(PriceKey{Item: PriceTransceiver, Name: c.a.Transceiver})
 	if c.inside == nil {
-		cableCents = MulCents(perM*int64(n), channelM)
+		cableCents = MulCents(p.PerMCents, channelM)
 		return cableCents, cableCents + 2*int64(c.strands)*term + 2*trx + c.b.attCents
 	}
-	// Outside-plant cable between the entrances, inside cable up the risers, and at each
-	// entrance an enclosure with trays for every strand of the cable and the splicing.
-	inSize, inN := c.inside.Fit(c.strands)
-	inPerM, _ := e.prices.Price(PriceKey{Item: PriceCable, Medium: c.m.ID, Construction: c.inside.ID, Count: inSize.Count})
+	// Outside-plant cable between the entrances, inside cable inside the end buildings, and
+	// at each entrance an enclosure with trays for every strand of the cable and the splicing.
+	cableCents = MulCents(p.PerMCents, channelM-insideM) + MulCents(p.InsidePerMCents, insideM) + p.HardwareCents
+	c.labourCents = p.LabourCents
+	return cableCents, cableCents + c.labourCents + 2*int64(c.strands)*term + 2*trx + c.b.attCents
+}
+
+// LayingPrice is what a laying's cable costs apart from its length: the prices routing puts
+// on a route and on its ends, from the same function as Choose's cost.
+type LayingPrice struct {
+	PerMCents       int64 // the construction's cable per metre, all the cables the strands need
+	InsidePerMCents int64 // with a transition, the inside construction's per metre, all its cables; 0 without
+	HardwareCents   int64 // with a transition, the enclosures and splice trays at both entrances; 0 without
+	LabourCents     int64 // with a transition, splicing every strand at both entrances; 0 without
+	InsideCables    int   // with a transition, the cables of the inside construction at each end; 0 without
+}
+
+// layingPrice prices construction k of medium m for strands strands, spliced to inside at
+// both entrances when inside is not nil: one enclosure per outside cable and trays for every
+// strand it holds at each entrance (transition_splice_each, splice_tray), and the splicing at
+// the book's splices per hour.
+func (e *Engine) layingPrice(m *Medium, k, inside *Construction, strands int) LayingPrice {
+	size, n := k.Fit(strands)
+	perM, _ := e.prices.Price(PriceKey{Item: PriceCable, Medium: m.ID, Construction: k.ID, Count: size.Count})
+	p := LayingPrice{PerMCents: perM * int64(n)}
+	if inside == nil {
+		return p
+	}
+	inSize, inN := inside.Fit(strands)
+	inPerM, _ := e.prices.Price(PriceKey{Item: PriceCable, Medium: m.ID, Construction: inside.ID, Count: inSize.Count})
 	encl, _ := e.prices.Price(PriceKey{Item: PriceTransition})
 	tray, _ := e.prices.Price(PriceKey{Item: PriceSpliceTray})
 	spliced := size.Count * n
-	hardware := 2 * (int64(n)*encl + int64(e.prices.TraysFor(spliced))*tray)
-	cableCents = MulCents(perM*int64(n), channelM-riserM) + MulCents(inPerM*int64(inN), riserM) + hardware
+	p.InsidePerMCents, p.InsideCables = inPerM*int64(inN), inN
+	p.HardwareCents = 2 * (int64(n)*encl + int64(e.prices.TraysFor(spliced))*tray)
 	if hour, ok := e.prices.Price(PriceKey{Item: PriceLabourHour}); ok {
 		if rate, ok := e.prices.Rate(PriceKey{Item: RateSplice}); ok && rate > 0 {
-			c.labourCents = int64(math.Round(float64(2*spliced) / rate * float64(hour)))
+			p.LabourCents = int64(math.Round(float64(2*spliced) / rate * float64(hour)))
 		}
 	}
-	return cableCents, cableCents + c.labourCents + 2*int64(c.strands)*term + 2*trx + c.b.attCents
+	return p
 }
 
 // checkLink lists what is wrong with a link's facts, or "" when nothing is.
@@ -554,7 +591,7 @@ func checkLink(l Link) string {
 		name string
 		v    float64
 	}{{"route_m", l.RouteM}, {"riser_m", l.RiserM}, {"slack_m", l.SlackM}, {"future_rate_gbps", l.FutureRateGbps},
-		{"inside_a_m", l.InsideAM}, {"inside_b_m", l.InsideBM}} {
+		{"inside_a_m", l.InsideAM}, {"inside_b_m", l.InsideBM}, {"crossed_inside_m", l.CrossedInsideM}} {
 		if !finite(q.v) || q.v < 0 {
 			bad = append(bad, fmt.Sprintf("%s is %g, want >= 0", q.name, q.v))
 		}
@@ -611,13 +648,14 @@ type chooseKey struct {
 	outdoor, plenum                              bool
 	types                                        string
 	pairs, splices, strands, copper              int
-	insideA, insideB                             float64
+	insideA, insideB, crossed                    float64
 }
 
 func keyOf(l Link) chooseKey {
 	return chooseKey{id: l.ID, routeM: l.RouteM, riserM: l.RiserM, slackM: l.SlackM, rateGbps: l.RateGbps,
 		futureGbps: l.FutureRateGbps, emi: l.MaxEMI, outdoor: l.Outdoor, plenum: l.Plenum, types: strings.Join(l.PathwayTypes, "\x00"),
-		pairs: l.ConnectorPairs, splices: l.Splices, strands: l.Strands, copper: l.CopperCables, insideA: l.InsideAM, insideB: l.InsideBM}
+		pairs: l.ConnectorPairs, splices: l.Splices, strands: l.Strands, copper: l.CopperCables, insideA: l.InsideAM, insideB: l.InsideBM,
+		crossed: l.CrossedInsideM}
 }
 
 // clone gives the caller slices of its own, so a remembered choice cannot be changed.
@@ -688,7 +726,7 @@ func (e *Engine) choose(l Link) Choice {
 			ch.Termination = e.termination
 		}
 		if win.inside != nil {
-			ch.Inside = win.inside.ID
+			ch.Inside, ch.InsideM = win.inside.ID, l.transitionInsideM(at.channelM)
 		}
 	}
 	var summary []string
@@ -705,12 +743,8 @@ func (e *Engine) choose(l Link) Choice {
 		}
 	}
 	if win == nil {
-		// An outside-plant cable stopped at the 15 m rule could have been spliced to listed
-		// cable at the entrances, but only with a price for the splice enclosure.
-		if _, priced := e.prices.Price(PriceKey{Item: PriceTransition}); !priced && slices.ContainsFunc(all, func(c *candidate) bool {
-			return transitionFits(l, c.m, c.k)
-		}) {
-			summary = append(summary, "no splice to listed cable at the entrances was tried: the price book has no "+PriceKey{Item: PriceTransition}.Path())
+		if note := e.UntriedTransition("", l); note != "" {
+			summary = append(summary, note)
 		}
 		ch.Reason = fmt.Sprintf("%s: no medium carries %s over %s m: %s", linkName(l), FormatRate(l.RateGbps),
 			formatNum(l.ChannelM()), strings.Join(summary, "; "))
@@ -719,6 +753,63 @@ func (e *Engine) choose(l Link) Choice {
 	}
 	ch.Reason, ch.Code = e.reason(l, win, ok)
 	return ch
+}
+
+// UntriedTransition says, when it is so, that outside-plant cable of medium ("": any) on a
+// link with l's facts could have been spliced to listed cable at the entrances but was not
+// tried for want of a price for the splice enclosure (transition_splice_each); "" otherwise.
+func (e *Engine) UntriedTransition(medium string, l Link) string {
+	if _, priced := e.prices.Price(PriceKey{Item: PriceTransition}); priced {
+		return ""
+	}
+	for _, m := range e.cat.Media {
+		if medium != "" && m.ID != medium {
+			continue
+		}
+		for _, k := range m.Constructions {
+			if transitionFits(l, m, k) {
+				return "no splice to listed cable at the entrances was tried: the price book has no " + PriceKey{Item: PriceTransition}.Path()
+			}
+		}
+	}
+	return ""
+}
+
+// WhyNotLaid is why laying lay of medium may not carry a link with l's facts at rateGbps at
+// the shortest channel (shortLengths): the reason of the first rule failed by the application
+// that fails the fewest, as a Rejection's; "" when it passes.
+func (e *Engine) WhyNotLaid(medium string, lay Laying, rateGbps float64, l Link) string {
+	m := e.mustMedium(medium)
+	mi := slices.Index(e.cat.Media, m)
+	l.RateGbps = rateGbps
+	at := shortLengths(l)
+	var c candidate
+	why, least := "", -1
+	for ai, a := range e.cat.Applications {
+		if len(e.reachesOn(a, m)) == 0 || a.RateGbps != rateGbps {
+			continue
+		}
+		for ki, k := range m.Constructions {
+			if k.ID != lay.Construction {
+				continue
+			}
+			for _, inside := range e.variants(l, a, m, k) {
+				if layingOf(k, inside) != lay {
+					continue
+				}
+				if e.evaluate(&c, l, at, mi, ai, ki, inside); c.failed < 0 {
+					return ""
+				} else if least < 0 || c.nFailed < least {
+					rule := e.rules.Rules[c.failed]
+					why, least = fmt.Sprintf("%s on %s rejected by %s: %s", m.ID, lay, rule.ID, rule.reason.render(c.f[:])), c.nFailed
+				}
+			}
+		}
+	}
+	if why == "" {
+		why = fmt.Sprintf("%s on %s: no such laying at %s on this link", m.ID, lay, FormatRate(rateGbps))
+	}
+	return why
 }
 
 // candidates holds the candidate slices of finished choices, for the next (choose).
@@ -866,8 +957,9 @@ func (e *Engine) reason(l Link, win *candidate, ok []*candidate) (string, string
 }
 
 // feasibleAt reports whether medium mi carries l at channelM metres with some application
-// and construction; c is scratch space, its contents of no meaning after.
-func (e *Engine) feasibleAt(c *candidate, l Link, mi int, channelM float64) bool {
+// and construction, the laying lay's when it names one; c is scratch space, its contents of
+// no meaning after.
+func (e *Engine) feasibleAt(c *candidate, l Link, mi int, channelM float64, lay Laying) bool {
 	at := trialLengths(l, channelM)
 	m := e.cat.Media[mi]
 	for ai, a := range e.cat.Applications {
@@ -876,7 +968,13 @@ func (e *Engine) feasibleAt(c *candidate, l Link, mi int, channelM float64) bool
 			continue
 		}
 		for ki, k := range m.Constructions {
+			if lay.Construction != "" && k.ID != lay.Construction {
+				continue
+			}
 			for _, inside := range e.variants(l, a, m, k) {
+				if lay.Construction != "" && lay != layingOf(k, inside) {
+					continue
+				}
 				if e.evaluate(c, l, at, mi, ai, ki, inside); c.failed < 0 {
 					return true
 				}
@@ -884,6 +982,79 @@ func (e *Engine) feasibleAt(c *candidate, l Link, mi int, channelM float64) bool
 		}
 	}
 	return false
+}
+
+// Laying is one way of laying a medium's cable on a link: a construction (a catalog id), and,
+// when Inside is not "", an entrance transition splicing it at both entrances to the listed
+// construction Inside, which runs inside the end buildings. The zero Laying names none: any
+// construction the rules allow.
+type Laying struct {
+	Construction, Inside string
+}
+
+// layingOf names construction k with its transition to inside (nil: none).
+func layingOf(k, inside *Construction) Laying {
+	if inside == nil {
+		return Laying{Construction: k.ID}
+	}
+	return Laying{Construction: k.ID, Inside: inside.ID}
+}
+
+// String is the laying as links.csv writes a construction: "osp-loose-tube + ofnr-riser at
+// entrances" with a transition.
+func (l Laying) String() string {
+	if l.Inside == "" {
+		return l.Construction
+	}
+	return l.Construction + " + " + l.Inside + " at entrances"
+}
+
+// shortLengths are the lengths LayingFor and Lays judge a link at: a channel of its risers and
+// slack and one metre of route, where only the rules on the route's kind and ends can fail.
+func shortLengths(l Link) lengths { return trialLengths(l, l.RiserM+l.SlackM+1) }
+
+// LayingFor is the laying of medium that carries a link with l's facts at rateGbps by every
+// rule at the shortest channel (shortLengths), with some application at that rate, and costs
+// the least installed there (Choose's cost: a transition's enclosures and splicing count in
+// full, so a laying without one wins where one passes); with its prices (for the strands of
+// that application). It is the laying a route of l's kind (pathway types, plenum, EMI) must
+// be priced as whatever its length, for routing. ok is false when none passes. It panics on a
+// medium not in the catalog.
+func (e *Engine) LayingFor(medium string, rateGbps float64, l Link) (lay Laying, price LayingPrice, ok bool) {
+	m := e.mustMedium(medium)
+	mi := slices.Index(e.cat.Media, m)
+	l.RateGbps = rateGbps
+	at := shortLengths(l)
+	var c candidate
+	var best struct {
+		lay   Laying
+		price LayingPrice
+		cost  int64
+		found bool
+	}
+	for ai, a := range e.cat.Applications {
+		if len(e.reachesOn(a, m)) == 0 || a.RateGbps != rateGbps {
+			continue
+		}
+		for ki, k := range m.Constructions {
+			for _, inside := range e.variants(l, a, m, k) {
+				if e.evaluate(&c, l, at, mi, ai, ki, inside); c.failed < 0 && (!best.found || c.costCents < best.cost) {
+					best.lay, best.price, best.cost, best.found = layingOf(k, inside), e.layingPrice(m, k, inside, c.strands), c.costCents, true
+				}
+			}
+		}
+	}
+	return best.lay, best.price, best.found
+}
+
+// Lays reports whether laying lay of medium carries a link with l's facts at rateGbps by every
+// rule at the shortest channel (shortLengths), with some application at that rate: whether a
+// route of l's kind may be laid so. It panics on a medium not in the catalog.
+func (e *Engine) Lays(medium string, lay Laying, rateGbps float64, l Link) bool {
+	m := e.mustMedium(medium)
+	l.RateGbps = rateGbps
+	var c candidate
+	return e.feasibleAt(&c, l, slices.Index(e.cat.Media, m), shortLengths(l).channelM, lay)
 }
 
 // MaxChannelM is the longest channel in metres over which medium can carry rateGbps, and
@@ -896,35 +1067,42 @@ func (e *Engine) feasibleAt(c *candidate, l Link, mi int, channelM float64) bool
 // the rate on the medium. It returns 0 when the medium never carries the rate for such a link,
 // or is unknown.
 func (e *Engine) MaxChannelM(medium string, rateGbps, futureRateGbps float64, l Link) float64 {
-	k := maxKeyOf(medium, rateGbps, futureRateGbps, l)
+	return e.MaxChannelMAs(medium, Laying{}, rateGbps, futureRateGbps, l)
+}
+
+// MaxChannelMAs is MaxChannelM with the cable laid as lay (its construction, with or without
+// its transition); the zero Laying is any, as MaxChannelM.
+func (e *Engine) MaxChannelMAs(medium string, lay Laying, rateGbps, futureRateGbps float64, l Link) float64 {
+	k := maxKeyOf(medium, lay, rateGbps, futureRateGbps, l)
 	if v, ok := e.maxMemo.Get(k); ok {
 		return v
 	}
-	v := e.maxChannelM(medium, rateGbps, futureRateGbps, l)
+	v := e.maxChannelM(medium, lay, rateGbps, futureRateGbps, l)
 	e.maxMemo.Add(k, v)
 	return v
 }
 
-// maxKeyOf is MaxChannelM's question as a key.
-func maxKeyOf(medium string, rateGbps, futureRateGbps float64, l Link) maxKey {
-	return maxKey{medium: medium, rate: rateGbps, future: futureRateGbps, riser: l.RiserM, slack: l.SlackM,
+// maxKeyOf is MaxChannelMAs's question as a key.
+func maxKeyOf(medium string, lay Laying, rateGbps, futureRateGbps float64, l Link) maxKey {
+	return maxKey{medium: medium, laying: lay, rate: rateGbps, future: futureRateGbps, riser: l.RiserM, slack: l.SlackM,
 		emi: l.MaxEMI, outdoor: l.Outdoor, plenum: l.Plenum, types: strings.Join(l.PathwayTypes, ","), pairs: l.ConnectorPairs,
-		splices: l.Splices, strands: l.Strands, copper: l.CopperCables, insideA: l.InsideAM, insideB: l.InsideBM}
+		splices: l.Splices, strands: l.Strands, copper: l.CopperCables, insideA: l.InsideAM, insideB: l.InsideBM, crossed: l.CrossedInsideM}
 }
 
 // maxKey is what MaxChannelM's answer depends on (with the engine).
 type maxKey struct {
 	medium                     string
+	laying                     Laying
 	rate, future, riser, slack float64
 	emi                        string
 	outdoor, plenum            bool
 	types                      string
 	pairs, splices, strands    int
 	copper                     int
-	insideA, insideB           float64
+	insideA, insideB, crossed  float64
 }
 
-func (e *Engine) maxChannelM(medium string, rateGbps, futureRateGbps float64, l Link) float64 {
+func (e *Engine) maxChannelM(medium string, lay Laying, rateGbps, futureRateGbps float64, l Link) float64 {
 	mi := -1
 	for i, m := range e.cat.Media {
 		if m.ID == medium {
@@ -948,7 +1126,7 @@ func (e *Engine) maxChannelM(medium string, rateGbps, futureRateGbps float64, l 
 		for _, r := range rs {
 			points = append(points, r.RangeM)
 		}
-		points = e.budgetPoints(points, l, a, m, rs)
+		points = e.budgetPoints(points, l, a, m, rs, lay)
 	}
 	sort.Float64s(points)
 	points = slices.Compact(points)
@@ -959,8 +1137,8 @@ func (e *Engine) maxChannelM(medium string, rateGbps, futureRateGbps float64, l 
 			continue
 		}
 		for _, y := range []float64{x, x * (1 - 1e-9)} {
-			if e.feasibleAt(&c, l, mi, y) {
-				return e.refine(&c, l, mi, y, points[i+1:])
+			if e.feasibleAt(&c, l, mi, y, lay) {
+				return e.refine(&c, l, mi, y, points[i+1:], lay)
 			}
 		}
 	}
@@ -969,17 +1147,17 @@ func (e *Engine) maxChannelM(medium string, rateGbps, futureRateGbps float64, l 
 
 // refine extends a feasible length lo towards the next breakpoint above it, in case a rule
 // compares facts in a way the breakpoints do not capture; it bisects to 1 mm.
-func (e *Engine) refine(c *candidate, l Link, mi int, lo float64, above []float64) float64 {
+func (e *Engine) refine(c *candidate, l Link, mi int, lo float64, above []float64, lay Laying) float64 {
 	if len(above) == 0 {
 		return lo
 	}
 	hi := above[0]
-	if !e.feasibleAt(c, l, mi, (lo+hi)/2) {
+	if !e.feasibleAt(c, l, mi, (lo+hi)/2, lay) {
 		return lo
 	}
 	for hi-lo > 0.001 {
 		mid := (lo + hi) / 2
-		if e.feasibleAt(c, l, mi, mid) {
+		if e.feasibleAt(c, l, mi, mid, lay) {
 			lo = mid
 		} else {
 			hi = mid
@@ -1004,6 +1182,20 @@ func (e *Engine) constructionFor(m *Medium, strands int, outdoor bool) (*Constru
 		}
 	}
 	return best, bestCents
+}
+
+// LongestRangeM is the longest operating range in metres of any application at rateGbps on
+// medium, of it or the grades it meets (Catalog.ReachesOn): no channel of the medium at the
+// rate is longer. It is 0 when none runs, and panics on a medium not in the catalog.
+func (e *Engine) LongestRangeM(medium string, rateGbps float64) float64 {
+	m := e.mustMedium(medium)
+	x := 0.0
+	for _, a := range e.cat.Applications {
+		if a.RateGbps == rateGbps {
+			x = max(x, longestRange(e.reachesOn(a, m)))
+		}
+	}
+	return x
 }
 
 func (e *Engine) mustMedium(id string) *Medium {
@@ -1039,6 +1231,13 @@ func (e *Engine) CablePerMCents(medium string, strands int, outdoor bool) int64 
 // entrance, already applies there). It falls back to CablePerMCents(medium, l.Strands,
 // l.Outdoor) when no construction passes, and panics on a medium not in the catalog.
 func (e *Engine) CableFor(medium string, rateGbps float64, l Link) int64 {
+	_, perM := e.CableLayingFor(medium, rateGbps, l)
+	return perM
+}
+
+// CableLayingFor is CableFor with the laying it prices: the construction that passes, without
+// a transition; the zero Laying when none passes and the price is CablePerMCents's.
+func (e *Engine) CableLayingFor(medium string, rateGbps float64, l Link) (Laying, int64) {
 	m := e.mustMedium(medium)
 	mi := slices.Index(e.cat.Media, m)
 	l.RateGbps = rateGbps
@@ -1061,6 +1260,7 @@ func (e *Engine) CableFor(medium string, rateGbps float64, l Link) int64 {
 	}
 	slices.SortStableFunc(ks, func(a, b priced) int { return cmp.Compare(a.perM, b.perM) })
 	best := int64(-1)
+	var lay Laying
 	var c candidate
 search:
 	for _, k := range ks {
@@ -1071,16 +1271,16 @@ search:
 			if e.evaluate(&c, l, at, mi, ai, k.ki, nil); c.failed < 0 {
 				size, n := m.Constructions[k.ki].Fit(c.strands)
 				if perM, ok := e.prices.Price(PriceKey{Item: PriceCable, Medium: m.ID, Construction: m.Constructions[k.ki].ID, Count: size.Count}); ok {
-					best = perM * int64(n)
+					best, lay = perM*int64(n), layingOf(m.Constructions[k.ki], nil)
 				}
 				break search
 			}
 		}
 	}
 	if best < 0 {
-		return e.CablePerMCents(medium, l.Strands, l.Outdoor)
+		return Laying{}, e.CablePerMCents(medium, l.Strands, l.Outdoor)
 	}
-	return best
+	return lay, best
 }
 
 // FixedCents is FixedCentsFor a link of strands strands (on copper one 4-pair cable per two).

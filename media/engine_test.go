@@ -470,10 +470,10 @@ func TestMaxChannelM(t *testing.T) {
 				// Choose agrees at the answer and rejects the medium just past it.
 				l := tc.link
 				l.RouteM, l.RateGbps, l.FutureRateGbps = got, tc.rate, tc.future
-				if !e.feasibleAt(new(candidate), l, indexOf(e.Media(), tc.medium), got) {
+				if !e.feasibleAt(new(candidate), l, indexOf(e.Media(), tc.medium), got, Laying{}) {
 					t.Errorf("%s: infeasible at its own maximum %.6f m", tc.name, got)
 				}
-				if e.feasibleAt(new(candidate), l, indexOf(e.Media(), tc.medium), got+0.01) {
+				if e.feasibleAt(new(candidate), l, indexOf(e.Media(), tc.medium), got+0.01, Laying{}) {
 					t.Errorf("%s: still feasible past its maximum %.6f m", tc.name, got)
 				}
 			}
@@ -768,11 +768,31 @@ func TestChooseTransition(t *testing.T) {
 	if ch := e.Choose(short); ch.Construction != "indoor-outdoor" || ch.Inside != "" {
 		t.Errorf("300 m: got %s spliced to %q, want indoor-outdoor without a transition", ch.Construction, ch.Inside)
 	}
-	// Copper and routes through trays never get a transition.
+	// A tray inside an end building (30 m at the first end, whose riser, coil and loop take
+	// 20 m; 20 m inside at the other): the inside cable takes it, 70 m of riser cable, and the
+	// outside-plant cable the other 2,970 m of the 3,040 m channel.
 	tray := long
 	tray.PathwayTypes = []string{"duct", "tray"}
-	if ch := e.Choose(tray); ch.Inside != "" {
-		t.Errorf("route with a tray: transition to %q", ch.Inside)
+	tray.InsideAM, tray.InsideBM = 20+30, 20
+	ch = e.Choose(tray)
+	if ch.Construction != "osp-loose-tube" || ch.Inside != "ofnr-riser" || ch.InsideM != 70 {
+		t.Fatalf("tray at an end: got %s spliced to %q over %g m (%s), want osp-loose-tube spliced to ofnr-riser over 70 m",
+			ch.Construction, ch.Inside, ch.InsideM, ch.Reason)
+	}
+	if want := int64(2970*143 + 70*168 + 2*(18000+3800)); ch.CableCents != want {
+		t.Errorf("tray at an end: cable %d cents, want %d", ch.CableCents, want)
+	}
+	for _, l := range ch.Losses {
+		if want := 0.5*2.97 + 1.0*0.07 + 2*0.5 + 4*0.3; l.WavelengthNM == 1310 && math.Abs(l.LossDB-want) > 0.005 {
+			t.Errorf("tray at an end: loss at 1310 nm %.3f dB, want %.3f (inside attenuation over the 70 m)", l.LossDB, want)
+		}
+	}
+	// A tray in a building the route passes through: splices at the ends' entrances leave
+	// outside-plant cable inside that building, so no transition.
+	crossed := tray
+	crossed.InsideAM, crossed.InsideBM, crossed.CrossedInsideM = 20, 20, 30
+	if ch := e.Choose(crossed); ch.Inside != "" {
+		t.Errorf("tray in a building passed through: transition to %q", ch.Inside)
 	}
 }
 
@@ -802,23 +822,49 @@ func TestReachWithRisersAndSlack(t *testing.T) {
 }
 
 // TestNoMediumNamesEveryNearMiss: a link that only fails because each construction breaks a
-// different rule names each of those rules, once. Over a direct-buried span and a tray, with
-// 20 m inside each building, indoor/outdoor cable is not rated for burial (rule direct-burial:
-// ICEA S-87-640 / Telcordia GR-20, from memory) and outside-plant cable may run at most 15 m
-// inside (NFPA 70 770.48, seen as fragment) and takes no transition on a route with trays
-// (README, "What spanwright does not model yet"); the reason used to name only the second,
-// which sent the user to the risers rather than to the buried span.
+// different rule names each of those rules, once. Over a direct-buried span and a tray in a
+// building it passes through, with 20 m inside each end's building, indoor/outdoor cable is
+// not rated for burial (rule direct-burial: ICEA S-87-640 / Telcordia GR-20, from memory) and
+// outside-plant cable may run at most 15 m inside (NFPA 70 770.48, seen as fragment) and takes
+// no transition where it would run inside a building between the ends; the reason used to
+// name only the second, which sent the user to the risers rather than to the buried span.
 func TestNoMediumNamesEveryNearMiss(t *testing.T) {
 	t.Parallel()
 	e := newEngine(t, nil, nil, EngineOptions{})
 	ch := e.Choose(Link{ID: "L", RouteM: 600, RiserM: 40, RateGbps: 10, Outdoor: true, ConnectorPairs: 2, Strands: 12,
-		PathwayTypes: []string{"buried", "duct", "tray"}})
+		PathwayTypes: []string{"buried", "duct", "tray"}, InsideAM: 20, InsideBM: 20, CrossedInsideM: 30})
 	if ch.Feasible {
 		t.Fatalf("feasible: %s %s; the test wants the two rules to meet", ch.Medium, ch.Construction)
 	}
 	for _, want := range []string{"os2 rejected by direct-burial", "os2 rejected by entrance-15m"} {
 		if n := strings.Count(ch.Reason, want); n != 1 {
 			t.Errorf("%q named %d times in %s", want, n, ch.Reason)
+		}
+	}
+}
+
+// TestTransitionTakesTrays: the 600 m link over a direct-buried span and a tray that used to
+// have no construction (TestNoMediumNamesEveryNearMiss before the fix) takes outside-plant
+// cable between the entrances spliced to listed riser cable, which runs the riser, coil and
+// loop (20 m) and the 25 m of tray inside the first end's building: what installers do (NFPA
+// 70 770.48, seen as fragment: unlisted cable ends within 15 m of the point of entrance;
+// ANSI/TIA-568.3-D, 0.3 dB per splice, from memory). The two transition splices are in the
+// loss budget.
+func TestTransitionTakesTrays(t *testing.T) {
+	t.Parallel()
+	e := newEngine(t, nil, nil, EngineOptions{})
+	ch := e.Choose(Link{ID: "L", RouteM: 600, RiserM: 40, RateGbps: 10, Outdoor: true, ConnectorPairs: 2, Strands: 12,
+		PathwayTypes: []string{"buried", "duct", "tray"}, InsideAM: 20 + 25, InsideBM: 20})
+	if !ch.Feasible || ch.Construction != "osp-loose-tube" || ch.Inside == "" || ch.InsideM != 65 {
+		t.Fatalf("got feasible %v, %s %s spliced to %q over %g m (%s); want osp-loose-tube spliced to listed cable over 65 m",
+			ch.Feasible, ch.Medium, ch.Construction, ch.Inside, ch.InsideM, ch.Reason)
+	}
+	if k := e.cat.Medium(ch.Medium).Construction(ch.Inside); k.Listing == "" {
+		t.Errorf("inside cable %s is not listed", k.ID)
+	}
+	for _, l := range ch.Losses {
+		if l.Operating && l.Splices != 2+2*TerminationSplices(e.termination) {
+			t.Errorf("%d nm: %d splices in the budget, want the 2 transition splices and the terminations'", l.WavelengthNM, l.Splices)
 		}
 	}
 }
@@ -848,5 +894,75 @@ func TestNoMediumNamesMissingTransitionPrice(t *testing.T) {
 	}
 	if want := "no splice to listed cable at the entrances was tried: the price book has no transition_splice_each"; !strings.Contains(ch.Reason, want) {
 		t.Errorf("reason %q lacks %q", ch.Reason, want)
+	}
+}
+
+// TestLayingFor: what routing prices a route of one kind as. On a link whose cable runs
+// 20 m inside each building (more than NFPA 70 770.48's 15 m for unlisted cable, seen as
+// fragment), a route in duct is laid as indoor/outdoor cable, and a route over a buried span
+// as outside-plant cable spliced to riser cable at both entrances (direct-burial: ICEA
+// S-87-640, from memory), whose two splices (ANSI/TIA-568.3-D 0.3 dB each, from memory) leave
+// it less reach than the indoor/outdoor cable; without the enclosure's price no laying may
+// be buried, and the reason says why indoor/outdoor may not.
+func TestLayingFor(t *testing.T) {
+	t.Parallel()
+	e := newEngine(t, nil, nil, EngineOptions{})
+	ends := Link{RiserM: 30, SlackM: 10, Outdoor: true, ConnectorPairs: 2, Strands: 12, InsideAM: 20, InsideBM: 20}
+	duct, buried := ends, ends
+	duct.PathwayTypes, buried.PathwayTypes = []string{"duct"}, []string{"buried"}
+	io := Laying{Construction: "indoor-outdoor"}
+	spliced := Laying{Construction: "osp-loose-tube", Inside: "ofnr-riser"}
+	if lay, _, ok := e.LayingFor("os2", 10, duct); !ok || lay != io {
+		t.Errorf("in duct: laid as %v (%v), want %v", lay, ok, io)
+	}
+	lay, price, ok := e.LayingFor("os2", 10, buried)
+	if !ok || lay != spliced {
+		t.Fatalf("buried: laid as %v (%v), want %v", lay, ok, spliced)
+	}
+	// The demo book (invented): 12-fibre outside plant 1.43 a metre, riser 1.68; an
+	// enclosure 260.00 and a 12-splice tray 38.00 at each entrance; 24 splices at 12 an hour.
+	if price.PerMCents != 143 || price.InsidePerMCents != 168 || price.HardwareCents != 2*(26000+3800) || price.InsideCables != 1 {
+		t.Errorf("buried: priced %+v", price)
+	}
+	if !e.Lays("os2", io, 10, duct) || e.Lays("os2", io, 10, buried) || !e.Lays("os2", spliced, 10, buried) {
+		t.Error("Lays disagrees with LayingFor")
+	}
+	if why := e.WhyNotLaid("os2", io, 10, buried); !strings.Contains(why, "rejected by direct-burial") {
+		t.Errorf("why not indoor/outdoor buried: %q", why)
+	}
+	rIO, rSpliced := e.MaxChannelMAs("os2", io, 10, 0, ends), e.MaxChannelMAs("os2", spliced, 10, 0, ends)
+	if !(rSpliced > 0 && rSpliced < rIO) {
+		t.Errorf("reach: indoor/outdoor %.1f m, spliced %.1f m; want the spliced shorter", rIO, rSpliced)
+	}
+	book, err := ParsePriceBook("no-transition.yaml", []byte(strings.Replace(string(pricesYAML), "transition_splice_each: 260.00", "", 1)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	plain, err := NewEngine(nil, nil, book, EngineOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if lay, _, ok := plain.LayingFor("os2", 10, buried); ok {
+		t.Errorf("no enclosure price: buried laid as %v", lay)
+	}
+	if note := plain.UntriedTransition("os2", buried); !strings.Contains(note, "transition_splice_each") {
+		t.Errorf("no enclosure price: note %q", note)
+	}
+}
+
+// TestLossReasonNamesSplicedCable: a loss-budget rejection of outside-plant cable spliced at
+// the entrances names the spliced cable, whose two transition splices (ANSI/TIA-568.3-D
+// 0.3 dB each, from memory) are in the loss it quotes; it used to name the outside-plant
+// construction alone, as if it were laid all the way.
+func TestLossReasonNamesSplicedCable(t *testing.T) {
+	t.Parallel()
+	e := newEngine(t, nil, nil, EngineOptions{})
+	ch := e.Choose(Link{ID: "L", RouteM: 14000, RiserM: 30, SlackM: 10, RateGbps: 10, Outdoor: true, ConnectorPairs: 2, Strands: 12,
+		PathwayTypes: []string{"buried"}, InsideAM: 20, InsideBM: 20, Splices: 3})
+	if ch.Feasible {
+		t.Fatalf("feasible: %s; the test wants the spliced cable to miss its budget", ch.Reason)
+	}
+	if want := "on osp-loose-tube spliced to ofnr-riser at both entrances loses"; !strings.Contains(ch.Reason, want) {
+		t.Errorf("reason lacks %q: %s", want, ch.Reason)
 	}
 }

@@ -62,6 +62,7 @@ const (
 	fAttenuatorDB
 	fOverloadDB
 	fRepairSplices
+	fCable
 	nFacts
 )
 
@@ -92,7 +93,7 @@ var facts = [nFacts]Fact{
 	fPlenum:                   boolFact("plenum", "part of the route runs in a plenum (an air-handling space)"),
 	fConnectorPairs:           numFact("connector_pairs", "mated connector pairs in the channel"),
 	fSplices:                  numFact("splices", "splices in the channel, entrance transitions included"),
-	fTransition:               boolFact("transition", "the outside-plant cable is spliced at both entrances to listed inside cable, which runs the risers"),
+	fTransition:               boolFact("transition", "the outside-plant cable is spliced at both entrances to listed inside cable, which runs inside the end buildings"),
 	fStrands:                  numFact("strands", "strands the link needs (4-pair cables for copper)"),
 	fKind:                     strFact("kind", "the medium's kind", KindCopper, KindMultimode, KindSinglemode),
 	fMedium:                   strFact("medium", "the medium's catalog id, e.g. om4"),
@@ -124,6 +125,7 @@ var facts = [nFacts]Fact{
 	fAttenuatorDB:             numFact("attenuator_db", "the fixed attenuator at each receiver that brings the loss up to min_loss_db, in dB; 0 when none is needed"),
 	fOverloadDB:               numFact("overload_db", "how far the channel, attenuator included, stays below min_loss_db, in dB; 0 when the receiver is safe"),
 	fRepairSplices:            numFact("repair_splices", "repair splices allowed for in loss_margin_db: single-mode outside plant, per km (catalog margins)"),
+	fCable:                    strFact("cable", "the cable laid, for reasons: construction, or with a transition e.g. \"osp-loose-tube spliced to ofnr-riser at both entrances\""),
 }
 
 var factIndex = func() map[string]int {

@@ -34,6 +34,22 @@ type Link struct {
 	// to the point of entrance. NFPA 70 Article 770 limits unlisted cable there to 15 m. When
 	// both are 0 each end is taken as half of RiserM.
 	InsideAM, InsideBM float64
+
+	// CrossedInsideM is the metres of the route on pathways drawn inside buildings it passes
+	// through (neither end's): a tray or tunnel there is not in InsideAM or InsideBM, and the
+	// inside cable of an entrance transition, spliced on at the two ends' entrances, cannot
+	// take it.
+	CrossedInsideM float64
+}
+
+// transitionInsideM is the metres of an entrance transition's inside cable at both ends
+// together on a channel of channelM metres: all of the leg's cable inside the end buildings
+// (insideM: risers, service coils, entrance loops and the in-building trays and tunnels up to
+// the point of entrance), at most the channel. It is the one length the loss budget blends,
+// the cost prices and the takeoff buys (Choice.InsideM).
+func (l Link) transitionInsideM(channelM float64) float64 {
+	a, b := l.insideM()
+	return min(a+b, channelM)
 }
 
 // insideM is the metres of cable inside the building at each end: InsideAM and InsideBM, or
@@ -87,9 +103,13 @@ type Choice struct {
 	CostCents    int64  // installed cost of the medium: cable, terminations, transceivers
 	CableCents   int64  // the cable part of CostCents (entrance transition enclosures and trays included); the rest is labour, terminations and transceivers
 	LabourCents  int64  // splicing the entrance transitions, part of CostCents; 0 without
-	Inside       string // with an entrance transition: the listed construction Construction is spliced to at both entrances, which runs the risers; "" without
-	Strands      int    // strands terminated at each end (4-pair cables for copper)
-	Termination  string // how fibre strand ends are terminated (a Termination* constant); "" for copper
+	Inside       string // with an entrance transition: the listed construction Construction is spliced to at both entrances, which runs inside the end buildings; "" without
+	// InsideM is, with an entrance transition, the metres of Inside cable at both ends
+	// together, before waste: the cable inside the end buildings (Link.InsideAM and InsideBM:
+	// risers, service coils, entrance loops, in-building trays); 0 without.
+	InsideM     float64
+	Strands     int    // strands terminated at each end (4-pair cables for copper)
+	Termination string // how fibre strand ends are terminated (a Termination* constant); "" for copper
 	// Attenuators is the number of fixed attenuators of AttenuatorDB dB each (one at every
 	// receiver) the PHY needs on this short a channel, priced at AttenuatorCents in CostCents;
 	// see AttenuatorQuantity.

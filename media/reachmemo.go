@@ -3,7 +3,6 @@ package media
 import (
 	"crypto/sha256"
 	"encoding/json"
-	"slices"
 	"strings"
 
 	lru "github.com/hashicorp/golang-lru/v2"
@@ -38,14 +37,20 @@ func NewReachMemo(size int) *ReachMemo {
 // MaxChannelM is e.MaxChannelM(medium, rateGbps, futureRateGbps, l), remembered across
 // engines whose reach depends on the same facts.
 func (r *ReachMemo) MaxChannelM(e *Engine, medium string, rateGbps, futureRateGbps float64, l Link) float64 {
+	return r.MaxChannelMAs(e, medium, Laying{}, rateGbps, futureRateGbps, l)
+}
+
+// MaxChannelMAs is e.MaxChannelMAs(medium, lay, rateGbps, futureRateGbps, l), remembered as
+// MaxChannelM is.
+func (r *ReachMemo) MaxChannelMAs(e *Engine, medium string, lay Laying, rateGbps, futureRateGbps float64, l Link) float64 {
 	if r == nil || e.reachID == ([32]byte{}) {
-		return e.MaxChannelM(medium, rateGbps, futureRateGbps, l)
+		return e.MaxChannelMAs(medium, lay, rateGbps, futureRateGbps, l)
 	}
-	k := sharedMaxKey{engine: e.reachID, inside: e.insideKey(medium, rateGbps, l), max: maxKeyOf(medium, rateGbps, futureRateGbps, l)}
+	k := sharedMaxKey{engine: e.reachID, inside: e.insideKey(medium, rateGbps, l), max: maxKeyOf(medium, lay, rateGbps, futureRateGbps, l)}
 	if v, ok := r.answers.Get(k); ok {
 		return v
 	}
-	v := e.MaxChannelM(medium, rateGbps, futureRateGbps, l)
+	v := e.MaxChannelMAs(medium, lay, rateGbps, futureRateGbps, l)
 	r.answers.Add(k, v)
 	return v
 }
@@ -89,7 +94,7 @@ func reachID(e *Engine) [32]byte {
 // no transition.
 func (e *Engine) insideKey(medium string, rateGbps float64, l Link) string {
 	m := e.cat.Medium(medium)
-	if m == nil || !m.Fibre() || !l.Outdoor || l.Plenum || l.RiserM <= 0 || slices.Contains(l.PathwayTypes, "tray") {
+	if m == nil || !m.Fibre() || !transitionLink(l) {
 		return ""
 	}
 	if _, ok := e.prices.Price(PriceKey{Item: PriceTransition}); !ok {

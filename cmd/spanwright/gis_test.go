@@ -255,7 +255,11 @@ func TestCheckBrokenGeoPackage(t *testing.T) {
 // optional text or number property it leaves out given as "" (a dBASE table has no NULL:
 // ESRI Shapefile Technical Description, 1998, from memory) and true as 1 (a logical field
 // exported as an integer, as a GeoPackage stores a BOOLEAN: OGC GeoPackage 1.3, Table 1). "" is
-// absent and 1 is true, so every output equals the demo's, byte for byte.
+// absent and 1 is true, so every output equals the demo's, byte for byte, when the blanks are
+// properties whose default is what a blank means (name, role, transit, plenum, group, an
+// entrance's id). Blanks of the properties the plan prices or routes by (a pathway's type,
+// status, ducts, EMI, surface, method; a building's riser) take their defaults too, and
+// `check` warns once per kind and property that they did.
 func TestShapefileHabits(t *testing.T) {
 	t.Parallel()
 	dir := demoFolder(t)
@@ -263,45 +267,77 @@ func TestShapefileHabits(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	var fc struct {
-		Type     string           `json:"type"`
-		Features []map[string]any `json:"features"`
-	}
-	if err := json.Unmarshal(data, &fc); err != nil {
-		t.Fatal(err)
-	}
-	optional := map[string][]string{
-		"building": {"name", "role", "riser_m", "transit"},
-		"pathway":  {"type", "status", "spare_ducts", "duct_mm", "emi", "surface", "method", "plenum", "group"},
+	quiet := map[string][]string{
+		"building": {"name", "role", "transit"},
+		"pathway":  {"plenum", "group"},
 		"entrance": {"id"},
 	}
-	blanks := 0
-	for _, f := range fc.Features {
-		props := f["properties"].(map[string]any)
-		for _, k := range optional[props["kind"].(string)] {
-			switch v, ok := props[k]; {
-			case !ok:
-				props[k] = ""
-				blanks++
-			case v == true:
-				props[k] = 1
-			case v == false:
-				props[k] = 0
+	warned := map[string][]string{
+		"building": {"riser_m"},
+		"pathway":  {"type", "status", "spare_ducts", "duct_mm", "emi", "surface", "method"},
+	}
+	// blank writes a copy of the demo campus with the properties of keys left out given as "".
+	blank := func(name string, keys ...map[string][]string) (blanked map[string]bool) {
+		var fc struct {
+			Type     string           `json:"type"`
+			Features []map[string]any `json:"features"`
+		}
+		if err := json.Unmarshal(data, &fc); err != nil {
+			t.Fatal(err)
+		}
+		blanked = map[string]bool{}
+		n := 0
+		for _, f := range fc.Features {
+			props := f["properties"].(map[string]any)
+			kind := props["kind"].(string)
+			for _, ks := range keys {
+				for _, k := range ks[kind] {
+					switch v, ok := props[k]; {
+					case !ok:
+						props[k] = ""
+						blanked[kind+" "+k] = true
+						n++
+					case v == true:
+						props[k] = 1
+					case v == false:
+						props[k] = 0
+					}
+				}
 			}
 		}
+		if n < 50 {
+			t.Fatalf("only %d properties left out to blank: the demo campus changed?", n)
+		}
+		out, err := json.Marshal(fc)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(filepath.Join(dir, name), out, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return blanked
 	}
-	if blanks < 100 {
-		t.Fatalf("only %d properties left out to blank: the demo campus changed?", blanks)
-	}
-	habits, err := json.Marshal(fc)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if err := os.WriteFile(filepath.Join(dir, "habits.geojson"), habits, 0o644); err != nil {
-		t.Fatal(err)
-	}
+	blank("habits.geojson", quiet)
 	demoPlan := filepath.Join(dir, "plan.yaml")
 	habitsPlan := withCampus(t, dir, "plan-habits.yaml", "campus: [habits.geojson]")
 	// The warnings name their file: campus.geojson against habits.geojson, the one difference.
 	sameOutputs(t, planFiles(t, demoPlan), planFiles(t, habitsPlan), sourceNames(t, demoPlan, ""), sourceNames(t, habitsPlan, ""))
+
+	blanked := blank("all-habits.geojson", quiet, warned)
+	allPlan := withCampus(t, dir, "plan-all-habits.yaml", "campus: [all-habits.geojson]")
+	out, msg, code := run(t, "check", allPlan)
+	if code != exitOK {
+		t.Fatalf("check: status %d: %s", code, msg)
+	}
+	want := 0
+	for kind, ks := range warned {
+		for _, k := range ks {
+			if blanked[kind+" "+k] {
+				want++
+			}
+		}
+	}
+	if got := strings.Count(out, "as an empty string, taken as absent"); got != want || want == 0 {
+		t.Errorf("%d warnings of blanks taken as absent, want one per kind and property blanked (%d):\n%s", got, want, out)
+	}
 }

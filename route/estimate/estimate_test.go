@@ -373,7 +373,7 @@ func TestCopperTakeoff(t *testing.T) {
 	cat := r.Engine.Catalog()
 	k := cat.Medium("cat6a").Construction("outdoor")
 	leg.Medium, leg.Construction, leg.Application = "cat6a", "outdoor", "1000BASE-T"
-	leg.Cable.Fit(cat, media.Choice{Medium: "cat6a", Construction: "outdoor", Strands: (leg.StrandsCable + 1) / 2}, leg.RiserM, 0, 0)
+	leg.Cable.Fit(cat, media.Choice{Medium: "cat6a", Construction: "outdoor", Strands: (leg.StrandsCable + 1) / 2}, 0, 0, 0)
 	if leg.Cable.Cables != (leg.StrandsCable+1)/2 || leg.Cable.Size != k.Sizes[0] {
 		t.Fatalf("copper fit: %+v", leg.Cable)
 	}
@@ -666,9 +666,11 @@ func TestEntranceTransition(t *testing.T) {
 		t.Fatalf("with it: %s + %q (%s), want osp-loose-tube spliced to ofnr-riser", lt.Construction, lt.Inside, lt.Choice)
 	}
 	c := lt.Cable
-	// Each end's piece is cut on its own: its 40 m riser and service coil, 5 % waste, whole metres.
-	if want := math.Ceil((40 + c.EndSlackM/2) * 1.05); c.InsideToM != want || c.InsideFromM != want || c.InsideLengthM != 2*want || c.LengthM != lp.Cable.LengthM {
-		t.Errorf("inside cable %.0f + %.0f = %.0f m of %.0f m bought, want %.0f at each end of %.0f (risers 2 × 40 m and the service coils, 5 %% waste)",
+	// The inside cable is all the cable inside the end buildings (media.Link.InsideAM and
+	// InsideBM): the risers, the service coils and the entrance loops; each end's piece is cut
+	// on its own: its 40 m riser, its coil and loop, 5 % waste, whole metres.
+	if want := math.Ceil((40 + c.EndSlackM/2 + c.EntranceLoopM/2) * 1.05); c.InsideToM != want || c.InsideFromM != want || c.InsideLengthM != 2*want || c.LengthM != lp.Cable.LengthM {
+		t.Errorf("inside cable %.0f + %.0f = %.0f m of %.0f m bought, want %.0f at each end of %.0f (risers 2 × 40 m, the service coils and entrance loops, 5 %% waste)",
 			c.InsideToM, c.InsideFromM, c.InsideLengthM, c.LengthM, want, lp.Cable.LengthM)
 	}
 	for _, nm := range []int{1310} {

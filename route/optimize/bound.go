@@ -86,13 +86,17 @@ func (sv *solver) fixedIn(freeAt []bool, e int32) int64 {
 // planWeight is the weight function of a plan tree over the base weights base with the free
 // edges freeAt: base plus fixedIn, unusable where base is negative.
 func (sv *solver) planWeight(base []int64, freeAt []bool) func(e int32) (int64, bool) {
-	return func(e int32) (int64, bool) {
-		b := base[e]
-		if b < 0 {
-			return 0, false
-		}
-		return b + sv.fixedIn(freeAt, e), true
+	return func(e int32) (int64, bool) { return sv.planEdge(base, freeAt, e) }
+}
+
+// planEdge is planWeight's weight of edge e, called directly where a call through a function
+// value per arc would cost (freeUp).
+func (sv *solver) planEdge(base []int64, freeAt []bool, e int32) (int64, bool) {
+	b := base[e]
+	if b < 0 {
+		return 0, false
 	}
+	return b + sv.fixedIn(freeAt, e), true
 }
 
 // freeKey is proposed edge e's term in the set hashes of free edges (freeHash, planTree.hash).
@@ -259,7 +263,7 @@ func (sv *solver) bound(anchor, prof int) bounder {
 // leaves the exact shortest-path tree of the new weights.
 func (sv *solver) freeUp(pt *planTree) {
 	t, net, root := pt.t, sv.net, pt.anchor
-	w := sv.planWeight(sv.profBase[pt.prof], pt.freeAt)
+	base, freeAt := sv.profBase[pt.prof], pt.freeAt
 	logged := sv.nPhantom > 0
 	h := &sv.upHeap
 	h.reset()
@@ -269,7 +273,7 @@ func (sv *solver) freeUp(pt *planTree) {
 		if du < 0 || !net.transit(u, root) {
 			return
 		}
-		we, ok := w(e)
+		we, ok := sv.planEdge(base, freeAt, e)
 		if !ok {
 			return
 		}

@@ -110,7 +110,7 @@ func (sv *solver) endSelf() {
 	sv.selfSt++
 	if sv.selfSt == 0 {
 		clear(sv.self)
-		clear(sv.chSelfSt)
+		clear(sv.chSelf)
 		sv.selfSt = 1
 	}
 }
@@ -562,7 +562,7 @@ func (sv *solver) estimate(d int) int64 {
 	if sv.chOn {
 		sv.scanCharges(c)
 		for _, k := range sv.chTouch {
-			sv.chSelf[k], sv.chSelfSt[k] = sv.chCnt[k], sv.selfSt
+			sv.chSelf[k] = selfUses{st: sv.selfSt, n: sv.chCnt[k]}
 		}
 	}
 	sv.markOwn(d, c)

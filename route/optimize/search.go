@@ -72,25 +72,28 @@ func (h *minHeap[W]) pop() (W, int32) {
 }
 
 // search is reusable scratch space for Dijkstra and A* over a Network's flat adjacency.
-// Arrays are stamped rather than cleared, so a search costs only what it visits.
+// Entries are stamped rather than cleared, so a search costs only what it visits.
 type search[W weight] struct {
-	net     *Network
-	dist    []W
-	lenMM   []int64
-	pred    []int32 // edge by which the node was reached, -1 at the root
-	seen    []uint32
-	settled []uint32
-	stamp   uint32
-	heap    minHeap[W]
-	rad     *radixHeap // used instead of heap when W is int64
+	net   *Network
+	ns    []nodeLabel[W] // per node
+	stamp uint32
+	heap  minHeap[W]
+	rad   *radixHeap // used instead of heap when W is int64
+}
+
+// nodeLabel is a search's label of one node. Its fields sit side by side because the inner
+// loop reads them together for each neighbour (settled, then seen and dist): one cache line,
+// not one per field, on a network larger than the cache.
+type nodeLabel[W weight] struct {
+	dist    W
+	lenMM   int64
+	seen    uint32
+	settled uint32
+	pred    int32 // edge by which the node was reached, -1 at the root
 }
 
 func newSearch[W weight](net *Network) *search[W] {
-	n := net.nodes
-	s := &search[W]{
-		net: net, dist: make([]W, n), lenMM: make([]int64, n), pred: make([]int32, n),
-		seen: make([]uint32, n), settled: make([]uint32, n),
-	}
+	s := &search[W]{net: net, ns: make([]nodeLabel[W], net.nodes)}
 	var zero W
 	if _, ok := any(zero).(int64); ok {
 		s.rad = &radixHeap{}
@@ -98,8 +101,11 @@ func newSearch[W weight](net *Network) *search[W] {
 	return s
 }
 
-// reached reports whether the last run labelled v.
-func (s *search[W]) reached(v int) bool { return s.seen[v] == s.stamp }
+// dist returns the weight of the last run's path to v (v reached).
+func (s *search[W]) dist(v int) W { return s.ns[v].dist }
+
+// lenMM returns the length of the last run's path to v (v reached).
+func (s *search[W]) lenMM(v int) int64 { return s.ns[v].lenMM }
 
 // heuristic returns a lower bound of the weight from node v to the goal, consistent
 // (h(u) <= w(u,v) + h(v)), and false for a node that cannot reach the goal.
@@ -116,8 +122,7 @@ func treeH(t *tree) heuristic[int64] {
 func (s *search[W]) run(root, goal int, w func(e int32) (W, bool), h heuristic[W]) bool {
 	s.stamp++
 	if s.stamp == 0 { // wrapped: clear once every 2³² runs
-		clear(s.seen)
-		clear(s.settled)
+		clear(s.ns)
 		s.stamp = 1
 	}
 	st := s.stamp
@@ -127,7 +132,8 @@ func (s *search[W]) run(root, goal int, w func(e int32) (W, bool), h heuristic[W
 	} else {
 		s.heap.reset()
 	}
-	s.dist[root], s.lenMM[root], s.pred[root], s.seen[root] = 0, 0, -1, st
+	ns := s.ns
+	ns[root].dist, ns[root].lenMM, ns[root].pred, ns[root].seen = 0, 0, -1, st
 	var k W
 	if h != nil {
 		k, _ = h(int32(root))
@@ -151,20 +157,22 @@ func (s *search[W]) run(root, goal int, w func(e int32) (W, bool), h heuristic[W
 			}
 			_, u = s.heap.pop()
 		}
-		if s.settled[u] == st {
+		nu := &ns[u]
+		if nu.settled == st {
 			continue
 		}
-		s.settled[u] = st
+		nu.settled = st
 		if int(u) == goal {
 			return true
 		}
 		if !net.transit(u, root) {
 			continue // a transit-free node ends the paths that reach it
 		}
-		du, lu := s.dist[u], s.lenMM[u]
+		du, lu := nu.dist, nu.lenMM
 		for _, a := range net.adj[net.start[u]:net.start[u+1]] {
 			v := a.to
-			if s.settled[v] == st {
+			nv := &ns[v]
+			if nv.settled == st {
 				continue
 			}
 			we, ok := w(a.edge)
@@ -172,7 +180,7 @@ func (s *search[W]) run(root, goal int, w func(e int32) (W, bool), h heuristic[W
 				continue
 			}
 			nd := du + we
-			if s.seen[v] == st && nd >= s.dist[v] {
+			if nv.seen == st && nd >= nv.dist {
 				continue
 			}
 			k := nd
@@ -188,7 +196,7 @@ func (s *search[W]) run(root, goal int, w func(e int32) (W, bool), h heuristic[W
 				}
 				k += hv
 			}
-			s.seen[v], s.dist[v], s.lenMM[v], s.pred[v] = st, nd, lu+net.lenMM[a.edge], a.edge
+			nv.seen, nv.dist, nv.lenMM, nv.pred = st, nd, lu+net.lenMM[a.edge], a.edge
 			if rad != nil {
 				rad.push(int64(k), v)
 			} else {
@@ -202,8 +210,8 @@ func (s *search[W]) run(root, goal int, w func(e int32) (W, bool), h heuristic[W
 // pathTo returns the hops from the root of the last run to v, root first.
 func (s *search[W]) pathTo(v int) []Hop {
 	var hops []Hop
-	for s.pred[v] >= 0 {
-		e := s.pred[v]
+	for s.ns[v].pred >= 0 {
+		e := s.ns[v].pred
 		ed := &s.net.edges[e]
 		fwd := ed.To == v && (ed.From != v)
 		u := ed.From
@@ -243,8 +251,8 @@ func buildTreeInto(t *tree, s *search[int64], root int, w func(e int32) (int64, 
 	}
 	t.root = root
 	for v := 0; v < n; v++ {
-		if s.reached(v) {
-			t.dist[v], t.lenMM[v], t.pred[v] = s.dist[v], s.lenMM[v], s.pred[v]
+		if nv := &s.ns[v]; nv.seen == s.stamp {
+			t.dist[v], t.lenMM[v], t.pred[v] = nv.dist, nv.lenMM, nv.pred
 		} else {
 			t.dist[v], t.lenMM[v], t.pred[v] = -1, -1, -1
 		}

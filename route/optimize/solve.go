@@ -109,15 +109,15 @@ type solver struct {
 	groups     map[int][]int32
 	proposed   []int32
 
-	costTrees   []*tree        // slot × profiles + profile, see slot
-	planTrees   []*planTree    // slot × profiles + profile
-	planList    []*planTree    // planTrees in creation order
-	upHeap      minHeap[int64] // freeUp's scratch
-	pairless    []uint8        // demand × exclusion class → 0 not known, 1 a pair may exist, 2 none can (noPair)
-	legSet      []int32        // demand → index into legMin (initLegCosts)
-	legMin      [][]int64      // set of cost profiles → edge → cheapest cents, -1 when none may use it
-	freeUps     int            // plan trees brought up to date in place (for the tests)
-	anchorSlot  []int32        // node → slot of the trees rooted there, -1 when none yet
+	costTrees   []*tree     // slot × profiles + profile, see slot
+	planTrees   []*planTree // slot × profiles + profile
+	planList    []*planTree // planTrees in creation order
+	upHeap      radixHeap   // freeUp's scratch: its keys never fall below the last popped
+	pairless    []uint8     // demand × exclusion class → 0 not known, 1 a pair may exist, 2 none can (noPair)
+	legSet      []int32     // demand → index into legMin (initLegCosts)
+	legMin      [][]int64   // set of cost profiles → edge → cheapest cents, -1 when none may use it
+	freeUps     int         // plan trees brought up to date in place (for the tests)
+	anchorSlot  []int32     // node → slot of the trees rooted there, -1 when none yet
 	nSlots      int
 	profLen     []int   // profile → exclusion class
 	propIdx     []int32 // edge → index into proposed, -1 for other edges
@@ -203,19 +203,27 @@ type solver struct {
 	// Charges (Problem.Charges): the charges of edge e are chList[chStart[e]:chStart[e+1]]
 	// (nil without charges); chOn says whether the searches and the plan cost price them
 	// (not for the length objective). chargeHash is the set hash of the charges paid.
-	chStart    []int32
-	chList     []int32
-	chOn       bool
-	chFree     bool // every charge is free to the searches (the open start)
+	chStart []int32
+	chList  []int32
+	chOn    bool
+	chFree  bool    // every charge is free to the searches (the open start)
+	kinds   []uint8 // edge → kindFixed | kindCharged | kindLimited (newSolver)
+	// Deferred removals (state.go, settle): the demand removed last, -1 when none is
+	// pending, and the edges whose users still list it (pendMark == pendSt).
+	pendD      int
+	pendE      []int32
+	pendMark   []uint32
+	pendSt     uint32
 	chargeHash uint64
 	// Per charge: uses by the demand being scanned (chCnt, valid where chMark == chStamp;
-	// see scanCharges) and by the demand estimated in place (chSelf, where chSelfSt == selfSt).
-	chCnt    []int32
-	chMark   []uint32
-	chStamp  uint32
-	chTouch  []int32
-	chSelf   []int32
-	chSelfSt []uint32
+	// see scanCharges) and by the demand estimated in place (chSelf, where its st == selfSt);
+	// chCents is each charge's Cents, side by side for chargeCents.
+	chCnt   []int32
+	chMark  []uint32
+	chStamp uint32
+	chTouch []int32
+	chSelf  []selfUses
+	chCents []int64
 	// joinSeen, joinStamp and joinQueue are the scratch of joined; joinWide marks the nodes
 	// whose walk went past joinBudget while joinEpoch held, within joinedAll (joinOn).
 	joinSeen  []uint32
@@ -249,6 +257,7 @@ func newSolver(p *Problem, opt Settings) *solver {
 		pen: make([]int64, ne), penOK: make([]bool, ne), penSt: make([]uint32, ne), self: make([]uint32, ne), own: make([]uint32, ne),
 		memos: make([]rerouteMemo, len(p.Demands)), qSt: make([]uint32, ne), qLevel: make([]uint8, ne),
 		selfSt: 1, ownSt: 1, // see endOwn
+		pendD: -1, pendSt: 1, pendMark: make([]uint32, ne),
 		warm: opt.Start,
 	}
 	if sv.maxRounds == 0 {
@@ -283,6 +292,18 @@ func newSolver(p *Problem, opt Settings) *solver {
 		}
 		if e.Group > 0 {
 			sv.groups[e.Group] = append(sv.groups[e.Group], int32(i))
+		}
+	}
+	sv.kinds = make([]uint8, ne)
+	for i := range sv.kinds {
+		if sv.fixedE[i] > 0 {
+			sv.kinds[i] |= kindFixed
+		}
+		if sv.chOn && sv.chStart[i] != sv.chStart[i+1] {
+			sv.kinds[i] |= kindCharged
+		}
+		if sv.limited[i] {
+			sv.kinds[i] |= kindLimited
 		}
 	}
 	profIdx := map[profile]int{}
@@ -391,7 +412,17 @@ func (sv *solver) initCharges() {
 		}
 	}
 	sv.chCnt, sv.chMark = make([]int32, nc), make([]uint32, nc)
-	sv.chSelf, sv.chSelfSt = make([]int32, nc), make([]uint32, nc)
+	sv.chSelf, sv.chCents = make([]selfUses, nc), make([]int64, nc)
+	for k, ch := range p.Charges {
+		sv.chCents[k] = ch.Cents
+	}
+}
+
+// selfUses is a charge's uses by the demand estimated in place, valid where st == selfSt:
+// the two sit side by side, as chargeCents reads them together.
+type selfUses struct {
+	st uint32
+	n  int32
 }
 
 // chargesOf returns the charges of edge e.
@@ -443,8 +474,8 @@ func (sv *solver) chargeCents(e int32) int64 {
 	st := sv.st
 	var b int64
 	for _, k := range sv.chList[sv.chStart[e]:sv.chStart[e+1]] {
-		if u := st.chUse[k]; u == 0 || (sv.chSelfSt[k] == sv.selfSt && u == sv.chSelf[k]) {
-			b += sv.p.Charges[k].Cents
+		if u := st.chUse[k]; u == 0 || (sv.chSelf[k].st == sv.selfSt && u == sv.chSelf[k].n) {
+			b += sv.chCents[k]
 		}
 	}
 	return b
@@ -547,13 +578,17 @@ func (sv *solver) weightFor(d, o int) func(e int32) (int64, bool) {
 		if b < 0 || sv.forbid[e] {
 			return 0, false
 		}
-		if fx := sv.fixedE[e]; fx > 0 && (st.count[e] == 0 || (st.count[e] == 1 && sv.self[e] == sv.selfSt)) && !sv.phantom[e] {
-			b += fx
+		k := sv.kinds[e]
+		if k == 0 {
+			return b, true // most edges: the base weight alone
 		}
-		if sv.chOn && !sv.chFree && sv.chStart[e] != sv.chStart[e+1] {
+		if k&kindFixed != 0 && (st.count[e] == 0 || (st.count[e] == 1 && sv.self[e] == sv.selfSt)) && !sv.phantom[e] {
+			b += sv.fixedE[e]
+		}
+		if k&kindCharged != 0 && !sv.chFree {
 			b += sv.chargeCents(e)
 		}
-		if sv.limited[e] {
+		if k&kindLimited != 0 {
 			pen, ok := sv.penalty(d, o, e, area)
 			if !ok {
 				return 0, false
@@ -563,6 +598,14 @@ func (sv *solver) weightFor(d, o int) func(e int32) (int64, bool) {
 		return b, true
 	}
 }
+
+// Edge kinds (solver.kinds): what besides its base weight weightFor may add on an edge, so
+// that the searches read one byte, not three arrays, on the edges that add nothing.
+const (
+	kindFixed   = 1 << iota // FixedCents > 0 (proposed, cost objective)
+	kindCharged             // has charges, and the charges are priced (solver.chOn)
+	kindLimited             // limited duct capacity
+)
 
 // route returns the best single path for demand d with option o against the current state:
 // its hops (free end → anchor), marginal weight and whether one within reach exists.
@@ -599,8 +642,8 @@ func (sv *solver) route(d, o int) ([]Hop, int64, bool) {
 		return nil, 0, false
 	}
 	hops = sv.srch.pathTo(t)
-	if sv.srch.lenMM[t] <= limit {
-		return hops, sv.srch.dist[t], true
+	if sv.srch.lenMM(t) <= limit {
+		return hops, sv.srch.dist(t), true
 	}
 	lt := sv.lenTreeOf(t, sv.profLen[prof])
 	if lt.dist[s] > limit {
@@ -612,7 +655,7 @@ func (sv *solver) route(d, o int) ([]Hop, int64, bool) {
 		}
 		return sv.net.lenMM[e], true
 	}
-	if !sv.srch.run(s, t, lw, treeH(lt)) || sv.srch.dist[t] > limit {
+	if !sv.srch.run(s, t, lw, treeH(lt)) || sv.srch.dist(t) > limit {
 		return nil, 0, false
 	}
 	pd := sv.srch.pathTo(t)

@@ -67,6 +67,7 @@ func (a key) less(b key) bool {
 // newState returns an empty plan, reusing a state dropped earlier (see dropState) when there
 // is one, with its buffers.
 func newState(sv *solver) *state {
+	sv.settle() // pending entries belong to the state being replaced
 	var st *state
 	if n := len(sv.pool); n > 0 {
 		st, sv.pool = sv.pool[n-1], sv.pool[:n-1]
@@ -163,6 +164,7 @@ func (sv *solver) touch(e, d int, od float64, n int) {
 
 // flush brings the packing of every touched edge up to date.
 func (sv *solver) flush() {
+	sv.settle()
 	st := sv.st
 	for _, e32 := range st.dirty {
 		e := int(e32)
@@ -256,11 +258,15 @@ func choiceSig(c choice) uint64 {
 
 func (sv *solver) add(d int, c choice) {
 	st := sv.st
+	if sv.pendD != d {
+		sv.settle()
+	}
 	st.ch[d] = c
 	st.planH -= mix(uint64(d), st.sig[d])
 	st.sig[d] = choiceSig(c)
 	st.planH += mix(uint64(d), st.sig[d])
 	if c.opt < 0 {
+		sv.settle()
 		return
 	}
 	st.unrouted--
@@ -288,6 +294,20 @@ func (sv *solver) add(d int, c choice) {
 				}
 			}
 			if sv.tracked[e] {
+				if sv.pendMark[e] == sv.pendSt {
+					// d's entry, left by remove, is d's again: its cable in place.
+					sv.pendMark[e] = 0
+					i, _ := slices.BinarySearch(st.users[e], int32(d))
+					if sv.limited[e] {
+						n := sv.cables(d, c.opt)
+						st.ods[e][i] = sv.od(d, c.opt)
+						if sv.multi {
+							st.cnt[e][i] = int32(n)
+						}
+						sv.touch(e, d, sv.od(d, c.opt), n)
+					}
+					continue
+				}
 				i, _ := slices.BinarySearch(st.users[e], int32(d))
 				if sv.limited[e] && st.appendN[e] >= 0 {
 					if i == len(st.users[e]) {
@@ -308,10 +328,51 @@ func (sv *solver) add(d int, c choice) {
 			}
 		}
 	}
+	sv.settle()
+}
+
+// Deferred removals. remove leaves demand d's entries in the users (and ods, cnt) of its
+// edges, marked pending, and the next add of d reuses those on its new route in place; the
+// rest are deleted then (settle), as they are before any other add or remove and before a
+// flush. Most removals are followed by an add of the same demand on much the same route
+// (a reroute), and on a trunk that thousands of cables share, deleting and inserting its
+// entry moved the whole list twice. The lists are the same as with immediate deletion
+// whenever anything reads them; between remove(d) and add(d) only best(d) runs, which skips d
+// in them (penalty).
+
+// settle deletes the entries remove left pending.
+func (sv *solver) settle() {
+	if sv.pendD < 0 {
+		return
+	}
+	st, d := sv.st, int32(sv.pendD)
+	for _, e := range sv.pendE {
+		if sv.pendMark[e] != sv.pendSt {
+			continue // d's again (add)
+		}
+		i, found := slices.BinarySearch(st.users[e], d)
+		if !found {
+			panic("optimize: demand missing from an edge's users")
+		}
+		st.users[e] = slices.Delete(st.users[e], i, i+1)
+		if sv.limited[e] {
+			st.ods[e] = slices.Delete(st.ods[e], i, i+1)
+			if sv.multi {
+				st.cnt[e] = slices.Delete(st.cnt[e], i, i+1)
+			}
+		}
+	}
+	sv.pendE, sv.pendD = sv.pendE[:0], -1
+	sv.pendSt++
+	if sv.pendSt == 0 {
+		clear(sv.pendMark)
+		sv.pendSt = 1
+	}
 }
 
 func (sv *solver) remove(d int) choice {
 	st := sv.st
+	sv.settle()
 	c := st.ch[d]
 	st.planH -= mix(uint64(d), st.sig[d])
 	st.sig[d] = choiceSig(choice{opt: -1})
@@ -338,17 +399,25 @@ func (sv *solver) remove(d int) choice {
 				}
 			}
 			if sv.tracked[e] {
-				i, found := slices.BinarySearch(st.users[e], int32(d))
-				if !found {
-					panic("optimize: demand missing from an edge's users")
+				if sv.pendMark[e] != sv.pendSt {
+					sv.pendMark[e] = sv.pendSt
+					sv.pendE = append(sv.pendE, int32(e))
+				} else {
+					// The route passes e again: this entry goes now.
+					i, found := slices.BinarySearch(st.users[e], int32(d))
+					if !found {
+						panic("optimize: demand missing from an edge's users")
+					}
+					st.users[e] = slices.Delete(st.users[e], i, i+1)
+					if sv.limited[e] {
+						st.ods[e] = slices.Delete(st.ods[e], i, i+1)
+						if sv.multi {
+							st.cnt[e] = slices.Delete(st.cnt[e], i, i+1)
+						}
+					}
 				}
-				st.users[e] = slices.Delete(st.users[e], i, i+1)
 				if sv.limited[e] {
 					st.appendN[e] = -1
-					st.ods[e] = slices.Delete(st.ods[e], i, i+1)
-					if sv.multi {
-						st.cnt[e] = slices.Delete(st.cnt[e], i, i+1)
-					}
 					sv.touch(e, d, sv.od(d, c.opt), sv.cables(d, c.opt))
 				}
 			}
@@ -361,6 +430,7 @@ func (sv *solver) remove(d int) choice {
 	}
 	st.unrouted++
 	st.ch[d] = choice{opt: -1}
+	sv.pendD = d
 	return c
 }
 
@@ -454,6 +524,9 @@ func (sv *solver) penalty(d, o int, e int32, areaMM2 float64) (int64, bool) {
 	var pen int64
 	ok := true
 	avail := ed.Ducts + st.added[e]
+	if sv.pendD != d {
+		sv.settle() // the lists as they are, but for d
+	}
 	ods := sv.odBuf[:0]
 	for _, u := range st.users[e] {
 		if int(u) != d { // estimate keeps d in the plan

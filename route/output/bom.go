@@ -198,7 +198,7 @@ func (u Units) Rounded(m float64, decimals int) float64 { return roundHalfAway(u
 // pull sections, structures (StructuresOf), duct fill, loss budgets and safety (the plan's cautions). Extended prices, subtotals, markups, the
 // total and the budget check are formulas, so a changed unit price or quantity moves
 // them. Physical quantities are numbers with their unit in the header.
-func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptions) error {
+func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptions, sts func() (structureList, error)) error {
 	u := UnitsOf(opt)
 	b := r.Estimate.BOM
 	cur := b.Currency
@@ -459,11 +459,11 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 			workbook.Number(u.N(p.RatedN), 1), workbook.Number(100*p.TensionN/p.RatedN, 1), workbook.Number(u.NPerM(p.SWBPNPerM), 1),
 			workbook.Bool(p.AddedFrom), workbook.Bool(p.AddedTo), workbook.Bool(p.WithinRating), workbook.Text(install.Why(p.Over, PullUnits(opt))))
 	}
-	sts, err := StructuresOf(r)
+	found, err := sts()
 	if err != nil {
 		return err
 	}
-	for _, st := range sts {
+	for _, st := range found.all {
 		structs.Append(workbook.Int(int64(st.Mark)), workbook.Text(st.Place(func(m float64) string { return LengthText(opt, m) })),
 			workbook.Text(st.Status), workbook.Text(st.Type), workbook.Text(st.Purpose), workbook.Number(st.Point[0], 7),
 			workbook.Number(st.Point[1], 7), workbook.Text(listCell(st.Legs, "plan.gpkg's structures layer")))

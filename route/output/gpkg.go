@@ -150,16 +150,17 @@ func optional(v any, ok bool) any {
 // routes.geojson), lengths to the decimetre and decibels to the hundredth as there.
 func planGeoPackage(ctx context.Context, r *route.Result) ([]byte, error) {
 	var buf bytes.Buffer
-	if err := writeGeoPackage(ctx, &buf, r); err != nil {
+	if err := writeGeoPackage(ctx, &buf, r, structuresOnce(r)); err != nil {
 		return nil, err
 	}
 	return buf.Bytes(), nil
 }
 
 // writeGeoPackage renders plan.gpkg into w, as planGeoPackage does, without holding the file
-// in memory (gpkgout.WriteTo builds it in a temporary file).
-func writeGeoPackage(ctx context.Context, w io.Writer, r *route.Result) error {
-	layers, err := planLayers(ctx, r)
+// in memory (gpkgout.WriteTo builds it in a temporary file); sts gives the added pull points
+// and the structures table.
+func writeGeoPackage(ctx context.Context, w io.Writer, r *route.Result, sts func() (structureList, error)) error {
+	layers, err := planLayers(ctx, r, sts)
 	if err != nil {
 		return err
 	}
@@ -167,7 +168,7 @@ func writeGeoPackage(ctx context.Context, w io.Writer, r *route.Result) error {
 }
 
 // planLayers lays out plan.gpkg's layers (gpkgLayers) with the plan's features.
-func planLayers(ctx context.Context, r *route.Result) ([]gpkgout.Layer, error) {
+func planLayers(ctx context.Context, r *route.Result, sts func() (structureList, error)) ([]gpkgout.Layer, error) {
 	layers := gpkgLayers()
 	byName := map[string]*gpkgout.Layer{}
 	for i := range layers {
@@ -334,8 +335,11 @@ func planLayers(ctx context.Context, r *route.Result) ([]gpkgout.Layer, error) {
 		}
 		add(LayerStructures, sp.PointAt(h.AtM), nil, h.Span, round1(h.AtM), PurposeRun, ListText(spanLinks[h.Span]))
 	}
-	pulls := addedPullPoints(r)
-	for _, p := range pulls {
+	found, err := sts()
+	if err != nil {
+		return nil, err
+	}
+	for _, p := range found.pulls {
 		if p.junction != "" {
 			j, ok := net.Junction(p.junction)
 			if !ok {
@@ -356,11 +360,7 @@ func planLayers(ctx context.Context, r *route.Result) ([]gpkgout.Layer, error) {
 	}
 
 	// The structures table.
-	sts, err := structuresOf(r, pulls)
-	if err != nil {
-		return nil, err
-	}
-	for _, st := range sts {
+	for _, st := range found.all {
 		add(LayerAllStructures, st.Point, st.Mark, optional(st.ID, st.ID != ""), optional(st.Span, st.Span != ""),
 			optional(round1(st.AtM), st.Span != ""), st.Status, st.Type, st.Purpose, ListText(st.Legs))
 	}

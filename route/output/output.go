@@ -84,6 +84,7 @@ func WeightMiB(r *route.Result, kibPerLeg int) int { return 1 + len(r.Legs)*kibP
 // bill of materials bom.csv and bom.xlsx (unless opt.SkipWorkbook). Nothing is rendered
 // until a file's Render is called.
 func Outputs(r *route.Result, opt WriteOptions) []File {
+	sts := structuresOnce(r) // plan.gpkg and bom.xlsx both list them
 	files := []File{
 		{Name: "routes.geojson", Render: func(ctx context.Context, w io.Writer) error { return routesGeoJSON(ctx, w, r) }},
 		{Name: "links.csv", Render: func(ctx context.Context, w io.Writer) error { return linksCSV(w, r, opt) }},
@@ -91,7 +92,7 @@ func Outputs(r *route.Result, opt WriteOptions) []File {
 	}
 	if !opt.SkipGeoPackage {
 		files = append(files, File{Name: geoPackageFileName, Weight: WeightMiB(r, GeoPackageKiBPerLeg), Render: func(ctx context.Context, w io.Writer) error {
-			return named(ctx, geoPackageFileName, writeGeoPackage(ctx, w, r))
+			return named(ctx, geoPackageFileName, writeGeoPackage(ctx, w, r, sts))
 		}})
 	}
 	if r.Estimate == nil || r.Estimate.BOM == nil {
@@ -102,7 +103,7 @@ func Outputs(r *route.Result, opt WriteOptions) []File {
 	}})
 	if !opt.SkipWorkbook {
 		files = append(files, File{Name: "bom.xlsx", Weight: WeightMiB(r, WorkbookKiBPerLeg), Render: func(ctx context.Context, w io.Writer) error {
-			return named(ctx, "bom.xlsx", bomXLSX(ctx, w, r, opt))
+			return named(ctx, "bom.xlsx", bomXLSX(ctx, w, r, opt, sts))
 		}})
 	}
 	return files

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"slices"
 	"strings"
+	"sync"
 
 	"github.com/paulmach/orb"
 
@@ -67,6 +68,23 @@ func (s Structure) Place(length func(m float64) string) string {
 // (an existing pull box or vault, a handhole the pulling plan adds) lists the legs through it:
 // those whose spans meet there, those on its span, or those pulled there on a lateral.
 func StructuresOf(r *route.Result) ([]Structure, error) { return structuresOf(r, addedPullPoints(r)) }
+
+// structureList is a plan's added pull points (addedPullPoints) and its structures table
+// (StructuresOf), as the files that list them read them.
+type structureList struct {
+	pulls []pullPoint
+	all   []Structure
+}
+
+// structuresOnce finds r's structureList on its first call and returns it on every call:
+// Outputs finds it once for plan.gpkg and bom.xlsx, which may render side by side.
+func structuresOnce(r *route.Result) func() (structureList, error) {
+	return sync.OnceValues(func() (structureList, error) {
+		pulls := addedPullPoints(r)
+		all, err := structuresOf(r, pulls)
+		return structureList{pulls: pulls, all: all}, err
+	})
+}
 
 // structuresOf is StructuresOf given the plan's added pull points (addedPullPoints), for a
 // caller that has them already.

@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"html/template"
 	"math"
-	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -322,18 +321,24 @@ func buildMap(ctx context.Context, r *route.Result, opt Options, med map[string]
 	for _, h := range r.Handholes {
 		added[h.Junction] = h
 	}
+	// The entrances whose laterals tap a duct, by the junction of the tap, in the order of the
+	// entrances used: looked up per junction, not scanned for each.
+	tapsAt := map[string][]string{}
+	if r.Estimate != nil {
+		for _, en := range r.Estimate.Construction.Entrances {
+			if en.Tap != "" {
+				tapsAt[en.Tap] = append(tapsAt[en.Tap], en.Entrance)
+			}
+		}
+	}
 	// why says what else, besides routes turning, a handhole at junction id is for.
 	why := func(id string) []string {
 		var out []string
 		if added[id].Joins {
 			out = append(out, "new pathway joins the network there")
 		}
-		if r.Estimate != nil {
-			for _, en := range r.Estimate.Construction.Entrances {
-				if en.Tap == id {
-					out = append(out, "the lateral of "+en.Entrance+" taps a duct")
-				}
-			}
+		for _, en := range tapsAt[id] {
+			out = append(out, "the lateral of "+en+" taps a duct")
 		}
 		return out
 	}
@@ -352,15 +357,18 @@ func buildMap(ctx context.Context, r *route.Result, opt Options, med map[string]
 	// Then those no route turns at: where new pathway joins, then where laterals tap (in the
 	// order of the entrances used), each junction once.
 	var rest []string
+	inRest := map[string]bool{}
 	for _, h := range r.Handholes {
 		if h.Joins {
 			rest = append(rest, h.Junction)
+			inRest[h.Junction] = true
 		}
 	}
 	if r.Estimate != nil {
 		for _, en := range r.Estimate.Construction.Entrances {
-			if en.Tap != "" && !slices.Contains(rest, en.Tap) {
+			if en.Tap != "" && !inRest[en.Tap] {
 				rest = append(rest, en.Tap)
+				inRest[en.Tap] = true
 			}
 		}
 	}

@@ -1,6 +1,7 @@
 package routing
 
 import (
+	"container/heap"
 	"fmt"
 	"maps"
 	"math"
@@ -51,8 +52,13 @@ type Model struct {
 	prices      *media.PriceBook
 	design      plan.Design
 	allowedMemo map[allowedKey]bool
-	cableMemo   map[cableKey]int64
-	bidMemo     map[media.BidBases][]media.Quantity // items.BidPer by bases, for the model's book
+	cableMemo   map[cableKey]cabled
+	// laysMemo, layingMemo and layingPrices remember lays, layingFor and the prices of the
+	// layings it found.
+	laysMemo     map[layingKey]bool
+	layingMemo   map[layingKey]media.Laying
+	layingPrices map[layingKey]media.LayingPrice
+	bidMemo      map[media.BidBases][]media.Quantity // items.BidPer by bases, for the model's book
 }
 
 // Edge flags. flagDuct marks a duct edge, so that a cable too large for the design's
@@ -174,22 +180,41 @@ func (lay *layout) explain(in optimize.Infeasible, l *site.Link, why func(medium
 	return strings.Join(msgs, "; ")
 }
 
-// whyNot is the rule engine's reason for keeping medium off spans of class c.
-func (m *Model) whyNot(medium string, facts media.Link, c spanClass) string {
-	l := c.facts(facts)
+// whyNot is the rule engine's reason for keeping the option named name off spans of class c:
+// where the medium may be laid there another way (an option of its own), why the option's
+// laying may not; otherwise the rules' reasons for every construction of its medium there on
+// the link's ends, and that an entrance transition was not tried for want of its price, when
+// so.
+func (m *Model) whyNot(name string, info demandInfo, c spanClass) string {
+	medium := optionMedium(name)
+	l := c.facts(info.facts)
 	l.RouteM = 1
+	var why []string
+	if lay := info.layings[name]; lay.Construction != "" && m.allowedFor(medium, info, c) {
+		if other, ok := m.layingFor(medium, info, c); ok && other != lay {
+			return m.eng.WhyNotLaid(medium, lay, info.rate, classFacts(info, c))
+		}
+		l.Outdoor = true // as the option's laying was priced: a route that leaves the buildings
+	}
 	for _, r := range m.eng.Choose(l).Rejected {
 		if r.Medium == medium {
-			return r.Reason
+			why = append(why, r.Reason)
 		}
 	}
-	return medium + " is not allowed there"
+	if note := m.eng.UntriedTransition(medium, l); note != "" {
+		why = append(why, note)
+	}
+	if len(why) == 0 {
+		return medium + " is not allowed there"
+	}
+	return strings.Join(why, "; ")
 }
 
 // NewModel builds the cost model of the plan's design on the engine's price book. The prices
 // the optimizer's problem asks of the book are checked by CheckPrices, all at once.
 func NewModel(eng *media.Engine, d plan.Design) *Model {
-	return &Model{eng: eng, prices: eng.PriceBook(), design: d, allowedMemo: map[allowedKey]bool{}, cableMemo: map[cableKey]int64{},
+	return &Model{eng: eng, prices: eng.PriceBook(), design: d, allowedMemo: map[allowedKey]bool{}, cableMemo: map[cableKey]cabled{},
+		laysMemo: map[layingKey]bool{}, layingMemo: map[layingKey]media.Laying{}, layingPrices: map[layingKey]media.LayingPrice{},
 		bidMemo: map[media.BidBases][]media.Quantity{}}
 }
 
@@ -369,12 +394,94 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 		}
 	}
 	infos := make([]demandInfo, len(links))
+	sh := &shortest{p: p} // the edges are all in
 	for i := range links {
-		d, info := demand(s, m, lay, &links[i])
+		d, info := demand(s, m, lay, &links[i], sh)
 		p.Demands = append(p.Demands, d)
 		infos[i] = info
 	}
 	return p, lay, infos, nil
+}
+
+// shortest is the shortest distance in reach metres between nodes of a problem over every
+// edge, whatever may use it (reachFrom), worked out from each target node asked (a link's
+// from building, which links share: the hub) the first time.
+type shortest struct {
+	p    *optimize.Problem
+	adj  [][]int
+	dist map[int][]float64
+}
+
+// betweenM is the shortest distance in reach metres between nodes a and b, from b.
+func (sh *shortest) betweenM(a, b int) float64 {
+	if sh.adj == nil {
+		sh.adj = make([][]int, sh.p.Nodes)
+		for i := range sh.p.Edges {
+			e := &sh.p.Edges[i]
+			sh.adj[e.From] = append(sh.adj[e.From], i)
+			sh.adj[e.To] = append(sh.adj[e.To], i)
+		}
+		sh.dist = map[int][]float64{}
+	}
+	if sh.dist[b] == nil {
+		sh.dist[b] = reachFrom(sh.p, sh.adj, b)
+	}
+	return sh.dist[b][a]
+}
+
+// reachFrom is the shortest distance in reach metres (optimize.Edge.ReachM, or LengthM) from
+// node src to every node over every edge of p, either way, whatever may use it (adj: the
+// edges at each node): +Inf where none joins.
+func reachFrom(p *optimize.Problem, adj [][]int, src int) []float64 {
+	dist := make([]float64, p.Nodes)
+	for i := range dist {
+		dist[i] = math.Inf(1)
+	}
+	dist[src] = 0
+	q := &nodeHeap{{node: src}}
+	for q.Len() > 0 {
+		it := heap.Pop(q).(nodeAt)
+		if it.m > dist[it.node] {
+			continue
+		}
+		for _, i := range adj[it.node] {
+			e := &p.Edges[i]
+			w := e.ReachM
+			if w == 0 {
+				w = e.LengthM
+			}
+			v := e.To
+			if v == it.node {
+				v = e.From
+			}
+			if nd := it.m + w; nd < dist[v] {
+				dist[v] = nd
+				heap.Push(q, nodeAt{node: v, m: nd})
+			}
+		}
+	}
+	return dist
+}
+
+// nodeAt is a node and its distance, in metres, for reachFrom's heap.
+type nodeAt struct {
+	node int
+	m    float64
+}
+
+type nodeHeap []nodeAt
+
+func (h nodeHeap) Len() int { return len(h) }
+func (h nodeHeap) Less(i, j int) bool {
+	return h[i].m < h[j].m || (h[i].m == h[j].m && h[i].node < h[j].node)
+}
+func (h nodeHeap) Swap(i, j int) { h[i], h[j] = h[j], h[i] }
+func (h *nodeHeap) Push(x any)   { *h = append(*h, x.(nodeAt)) }
+func (h *nodeHeap) Pop() any {
+	old := *h
+	x := old[len(old)-1]
+	*h = old[:len(old)-1]
+	return x
 }
 
 // prepaidTaps lists the junctions where the counted lateral of a building with one entrance
@@ -403,10 +510,31 @@ type demandInfo struct {
 	strands  int // cable strands after growth and rounding
 	options  []string
 	excluded []string // media left out before routing, with why
+	// layings are the options' layings by option name: how each prices its cable (the zero
+	// Laying when the medium's cheapest construction passes on no route of the link's ends).
+	layings map[string]media.Laying
+}
+
+// optionName is the name of the option of medium laid as lay: the medium alone for its
+// first option (priced as the cheapest cable its ends allow, media.Engine.CableFor), the
+// medium and the laying for an option that may use spans the first may not (a buried span,
+// laid as outside-plant cable spliced at the entrances): "os2 as osp-loose-tube + ofnr-riser
+// at entrances".
+func optionName(medium string, lay media.Laying, first bool) string {
+	if first {
+		return medium
+	}
+	return medium + " as " + lay.String()
+}
+
+// optionMedium is the medium of an option named by optionName (catalog ids hold no space).
+func optionMedium(name string) string {
+	medium, _, _ := strings.Cut(name, " ")
+	return medium
 }
 
 // demand turns a link into the optimizer's demand with one option per medium that can carry it.
-func demand(s *site.Site, m *Model, lay *layout, l *site.Link) (optimize.Demand, demandInfo) {
+func demand(s *site.Site, m *Model, lay *layout, l *site.Link, sh *shortest) (optimize.Demand, demandInfo) {
 	// A building with one entrance ends at it, with its lateral counted here; one with several
 	// ends at its own node, each entrance edge carrying its lateral (layout).
 	src, dst := lay.endEntry[l.To], lay.endEntry[l.From]
@@ -471,60 +599,185 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link) (optimize.Demand,
 	}
 	outside := lateral > 0 || slices.ContainsFunc(lay.classes, func(c spanClass) bool { return c.outdoor })
 	for _, med := range m.eng.Media() {
-		mm := m.eng.Catalog().Medium(med)
 		if lateral > 0 && !m.allowed(s, med, rate, future, strands, lateralClass) {
-			info.excluded = append(info.excluded, fmt.Sprintf("%s: the route leaves a building over a lateral: %s", med, m.whyNot(med, facts, lateralClass)))
+			info.excluded = append(info.excluded, fmt.Sprintf("%s: the route leaves a building over a lateral: %s", med, m.whyNot(med, info, lateralClass)))
 			continue
 		}
+		// The medium's first option prices its cable as the cheapest construction its ends
+		// allow (cableFor) and keeps off the span classes the rules keep the medium off, and
+		// those on which that construction may not be laid (a buried span, for indoor/outdoor
+		// cable: rule direct-burial). Such a class gets options of its own, each the laying the
+		// rules allow there at the least cost (media.Engine.LayingFor: outside-plant cable,
+		// spliced at the entrances to listed cable when the ends are long), priced, reached and
+		// kept off classes as that laying: so a route over a buried span is priced and
+		// reach-checked as the cable that will be laid there, or kept off it when no laying
+		// the book prices may be.
+		base, perM := m.cableFor(med, rate, facts, endSlack)
 		var exclude uint64
+		var others []media.Laying // the layings of the classes the first option may not use, in class order
+		// Another laying's option is left out when no application at the rate on the medium
+		// reaches the shortest route (addOption): then none is looked for.
+		reaches := m.eng.LongestRangeM(med, rate)-riser-coils-endLoops-lateral >= sh.betweenM(dm.Source, dm.Target)
 		for _, c := range lay.classes {
-			if !m.allowed(s, med, rate, future, strands, c) {
+			switch {
+			case !m.allowed(s, med, rate, future, strands, c):
 				exclude |= lay.classBit[c]
+			case base.Construction != "" && !m.lays(med, base, info, c):
+				exclude |= lay.classBit[c]
+				if !reaches {
+					continue
+				}
+				if other, ok := m.layingFor(med, info, c); ok && other != base && !slices.Contains(others, other) {
+					others = append(others, other)
+				}
 			}
 		}
-		maxCh := m.reachM(s, med, rate, future, facts, outside)
-		// The route may take what the channel leaves of the reach: the channel also holds the
-		// risers, the service coils and entrance loops, the halves of the slack loops at the
-		// end structures and the laterals (takeoff), whatever the route.
-		maxRoute := maxCh - riser - coils - endLoops - lateral
-		perM := m.cableFor(med, rate, facts, endSlack)
-		fixed := m.eng.FixedCentsFor(med, rate, facts)
-		switch {
-		case perM < 0 || fixed < 0:
-			info.excluded = append(info.excluded, fmt.Sprintf("%s: the price book prices no cable, termination or transceiver it needs at %s", med, media.FormatRate(rate)))
-			continue
-		case maxRoute <= 0:
-			info.excluded = append(info.excluded, fmt.Sprintf("%s: reaches at most %.1f m of channel; risers, slack loops and laterals alone take %.1f m", med, maxCh, maxCh-maxRoute))
-			continue
-		}
-		// The cables a leg pulls side by side and their size: known before routing only up to
-		// the construction the rules pick on the route (cableFit: the largest of those it may
-		// run outdoors), as the bill counts them (CableTakeoff.Fit).
-		od, cables := cableFit(mm, strands, facts.CopperCables)
-		// What the leg takes whatever its path: the cable of its risers, laterals, service coils,
-		// entrance loops and the halves of the structure loops at its ends that its spans leave
-		// out (problem), with waste (perM is all its cables'), and for each cable their pulls
-		// and the crew's work at its ends; a diverse link pays them again for its second leg,
-		// when it gets one.
-		fixed += media.MulCents(perM, items.Wasted(d, ends)) + m.cents(items.Times(float64(cables), endItems...)...) +
-			m.bidPer(media.BidBases{Structures: 1}, entered*float64(cables)) + legBid
-		second := int64(0)
-		if l.Diverse {
-			second = fixed
-		}
-		if d.Innerduct() {
-			if !items.InnerductFits(d, od) {
-				exclude |= flagDuct
-				info.excluded = append(info.excluded, fmt.Sprintf("%s: its %g mm cable does not fit the %g mm innerduct (53 %% fill, NFPA 70 Chapter 9 Table 1), so it is kept off ducts",
-					med, od, d.InnerductIDMM))
+		oe := optionEnds{riser: riser, lateral: lateral, coils: coils, endLoops: endLoops,
+			ends: ends, endItems: endItems, entered: entered, legBid: legBid, outside: outside, diverse: l.Diverse, sh: sh}
+		m.addOption(s, &dm, &info, med, base, true, perM, exclude, oe)
+		for _, other := range others {
+			var ex uint64
+			for _, c := range lay.classes {
+				if !m.allowed(s, med, rate, future, strands, c) || !m.lays(med, other, info, c) {
+					ex |= lay.classBit[c]
+				}
 			}
-			od = d.InnerductODMM // ducts hold the innerducts
+			m.addOption(s, &dm, &info, med, other, false, -1, ex, oe)
 		}
-		dm.Options = append(dm.Options, optimize.Option{Name: med, CablePerMCents: perM, FixedCents: fixed, SecondLegCents: second,
-			MaxRouteM: maxRoute, ExcludeFlags: exclude, CableODMM: od, Cables: cables})
-		info.options = append(info.options, med)
+		dropOutpriced(&dm, &info, med, sh)
 	}
 	return dm, info
+}
+
+// dropOutpriced takes the first option of medium med out of dm when another option of the
+// medium may use every span it may, costs no more a metre (the same cables), and costs no
+// more on a route as long as the shortest between the link's ends (so on every longer one),
+// and reaches at least twice that: outside-plant cable spliced at the entrances on a long
+// link, whose enclosures the cheaper metre has paid for before the route is that long. The
+// first option would win only on a route longer than the other reaches, more than twice the
+// shortest; that is given up (a model simplification, no published source) to spare the
+// optimizer the searches of an option it would not choose.
+func dropOutpriced(dm *optimize.Demand, info *demandInfo, med string, sh *shortest) {
+	ai := slices.IndexFunc(dm.Options, func(o optimize.Option) bool { return o.Name == med })
+	if ai < 0 {
+		return
+	}
+	a := &dm.Options[ai]
+	far := -1.0
+	for _, b := range dm.Options {
+		if b.Name == med || optionMedium(b.Name) != med || b.ExcludeFlags&^a.ExcludeFlags != 0 || b.CablePerMCents > a.CablePerMCents ||
+			b.Cables != a.Cables || b.CableODMM != a.CableODMM {
+			continue
+		}
+		if far < 0 {
+			far = sh.betweenM(dm.Source, dm.Target)
+		}
+		if b.MaxRouteM < 2*far || float64(b.FixedCents+b.SecondLegCents)+float64(b.CablePerMCents)*far > float64(a.FixedCents+a.SecondLegCents)+float64(a.CablePerMCents)*far {
+			continue
+		}
+		info.excluded = append(info.excluded, fmt.Sprintf("%s: %s costs less on any route of the %.1f m of the shortest or longer", med, b.Name, far))
+		info.options = slices.DeleteFunc(info.options, func(n string) bool { return n == med })
+		dm.Options = slices.Delete(dm.Options, ai, ai+1)
+		return
+	}
+}
+
+// optionEnds is what every option of a demand takes whatever its route (demand).
+type optionEnds struct {
+	riser, lateral, coils, endLoops, ends float64
+	endItems                              []media.Quantity
+	entered                               float64
+	legBid                                int64
+	outside, diverse                      bool
+	sh                                    *shortest
+}
+
+// addOption adds to dm the option of medium laid as lay (optionName: first, the medium's first
+// option, priced perM cents a metre; another, priced as lay by media.Engine.LayingFor),
+// keeping off the edges of exclude, or lists in info why it cannot be one.
+func (m *Model) addOption(s *site.Site, dm *optimize.Demand, info *demandInfo, med string, lay media.Laying, first bool, perM int64, exclude uint64, e optionEnds) {
+	d := m.design
+	facts, rate, future, strands := info.facts, info.rate, info.facts.FutureRateGbps, info.strands
+	name := optionName(med, lay, first)
+	mm := m.eng.Catalog().Medium(med)
+	var maxCh float64
+	var transition int64 // what a transition adds whatever the route
+	if first {
+		maxCh = m.reachM(s, med, media.Laying{}, rate, future, facts, e.outside)
+	} else {
+		// An option besides the medium's first that reaches less than the shortest route
+		// between the link's ends (over any edge: optimize.Edge.ReachM, what MaxRouteM is held
+		// to) can carry no route, so it is left out and the optimizer spared its searches: a
+		// multimode cable spliced at the entrances, whose two splices leave it a few tens of
+		// metres, on a long link. The catalog's longest range at the rate bounds the reach
+		// before it is worked out.
+		far := e.sh.betweenM(dm.Source, dm.Target)
+		if m.eng.LongestRangeM(med, rate)-e.riser-e.coils-e.endLoops-e.lateral < far {
+			info.excluded = append(info.excluded, fmt.Sprintf("%s: no application at %s on %s reaches the %.1f m of the shortest route", name, media.FormatRate(rate), med, far))
+			return
+		}
+		maxCh = m.reachM(s, med, lay, rate, future, facts, true)
+		price := m.layingPrices[layingKey{medium: med, laying: lay, strands: strands, rate: rate}]
+		perM = price.PerMCents
+		if lay.Inside != "" {
+			// The inside cable in the end buildings instead of the outside-plant cable there,
+			// the enclosures and trays at both entrances and the splicing (media.Engine's cost).
+			insideM := items.Wasted(d, facts.InsideAM+facts.InsideBM)
+			transition = media.MulCents(price.InsidePerMCents, insideM) - media.MulCents(price.PerMCents, insideM) +
+				price.HardwareCents + price.LabourCents
+			// Each inside cable's two ends, one at the entrance and one in the telecom room, at
+			// both buildings: prepared by the crew, with the bid items per cable end, as the
+			// bill counts them (CableTakeoff.CableEnds).
+			ends := float64(4 * price.InsideCables)
+			transition += m.cents(items.Crew(m.prices, media.CrewCableEndPrep, ends)...) + m.cents(m.bidItems(media.BidBases{CableEnds: 4 * price.InsideCables})...)
+		}
+	}
+	// The route may take what the channel leaves of the reach: the channel also holds the
+	// risers, the service coils and entrance loops, the halves of the slack loops at the
+	// end structures and the laterals (takeoff), whatever the route.
+	maxRoute := maxCh - e.riser - e.coils - e.endLoops - e.lateral
+	fixed := m.eng.FixedCentsFor(med, rate, facts)
+	switch {
+	case perM < 0 || fixed < 0:
+		info.excluded = append(info.excluded, fmt.Sprintf("%s: the price book prices no cable, termination or transceiver it needs at %s", name, media.FormatRate(rate)))
+		return
+	case maxRoute <= 0:
+		info.excluded = append(info.excluded, fmt.Sprintf("%s: reaches at most %.1f m of channel; risers, slack loops and laterals alone take %.1f m", name, maxCh, maxCh-maxRoute))
+		return
+	case !first && maxRoute < e.sh.betweenM(dm.Source, dm.Target):
+		info.excluded = append(info.excluded, fmt.Sprintf("%s: reaches %.1f m of route, and the shortest route is %.1f m", name, maxRoute, e.sh.betweenM(dm.Source, dm.Target)))
+		return
+	}
+	// The cables a leg pulls side by side and their size: known before routing only up to
+	// the construction the rules pick on the route (cableFit: the largest of those it may
+	// run outdoors), as the bill counts them (CableTakeoff.Fit).
+	od, cables := cableFit(mm, strands, facts.CopperCables)
+	// What the leg takes whatever its path: the cable of its risers, laterals, service coils,
+	// entrance loops and the halves of the structure loops at its ends that its spans leave
+	// out (problem), with waste (perM is all its cables'), and for each cable their pulls
+	// and the crew's work at its ends; a diverse link pays them again for its second leg,
+	// when it gets one.
+	fixed += media.MulCents(perM, items.Wasted(d, e.ends)) + m.cents(items.Times(float64(cables), e.endItems...)...) +
+		m.bidPer(media.BidBases{Structures: 1}, e.entered*float64(cables)) + e.legBid + transition
+	second := int64(0)
+	if e.diverse {
+		second = fixed
+	}
+	if d.Innerduct() {
+		if !items.InnerductFits(d, od) {
+			exclude |= flagDuct
+			info.excluded = append(info.excluded, fmt.Sprintf("%s: its %g mm cable does not fit the %g mm innerduct (53 %% fill, NFPA 70 Chapter 9 Table 1), so it is kept off ducts",
+				name, od, d.InnerductIDMM))
+		}
+		od = d.InnerductODMM // ducts hold the innerducts
+	}
+	dm.Options = append(dm.Options, optimize.Option{Name: name, CablePerMCents: perM, FixedCents: fixed, SecondLegCents: second,
+		MaxRouteM: maxRoute, ExcludeFlags: exclude, CableODMM: od, Cables: cables})
+	info.options = append(info.options, name)
+	if info.layings == nil {
+		info.layings = map[string]media.Laying{}
+	}
+	info.layings[name] = lay
 }
 
 // reachM is the longest channel, in metres, over which medium carries a link of facts with
@@ -543,11 +796,19 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link) (optimize.Demand,
 // own facts will (fillLeg), and the shorter of the two reaches is kept. A medium the rules
 // keep out of outside plant altogether keeps its reach inside: which spans it may use is the
 // span classes' matter (Model.allowed), not the reach's.
-func (m *Model) reachM(s *site.Site, medium string, rate, future float64, facts media.Link, outside bool) float64 {
-	r := m.reachWithJoinsM(s, medium, rate, future, facts)
+//
+// With a laying (not the zero one) the reach is the medium's laid so, and is measured on the
+// route that leaves the buildings only: outside-plant cable may not carry a link that stays
+// inside, and a transition is outside plant spliced at the entrances.
+func (m *Model) reachM(s *site.Site, medium string, lay media.Laying, rate, future float64, facts media.Link, outside bool) float64 {
+	if lay.Construction != "" {
+		facts.Outdoor = true
+		return m.reachWithJoinsM(s, medium, lay, rate, future, facts)
+	}
+	r := m.reachWithJoinsM(s, medium, lay, rate, future, facts)
 	if outside {
 		facts.Outdoor = true
-		out := m.reachWithJoinsM(s, medium, rate, future, facts)
+		out := m.reachWithJoinsM(s, medium, lay, rate, future, facts)
 		if out > 0 {
 			r = min(r, out)
 		}
@@ -561,11 +822,11 @@ func (m *Model) reachM(s *site.Site, medium string, rate, future float64, facts 
 // R(n) falls short of it (that band's channels all close). That n is at most the joins of a
 // channel R(0) long, and is found counting down from there: a few of the engine's answers,
 // not one per band.
-func (m *Model) reachWithJoinsM(s *site.Site, medium string, rate, future float64, facts media.Link) float64 {
+func (m *Model) reachWithJoinsM(s *site.Site, medium string, lay media.Laying, rate, future float64, facts media.Link) float64 {
 	base := facts.Splices
 	at := func(n int) float64 {
 		facts.Splices = base + n
-		return s.Reaches.MaxChannelM(m.eng, medium, rate, future, facts) // shared by a sweep's price books
+		return s.Reaches.MaxChannelMAs(m.eng, medium, lay, rate, future, facts) // shared by a sweep's price books
 	}
 	r0 := at(0)
 	if r0 <= joinsUpToM(m.design, 0) {
@@ -591,17 +852,86 @@ type cableKey struct {
 	strands                      int
 }
 
+// cabled is cableFor's answer.
+type cabled struct {
+	laying media.Laying
+	perM   int64
+}
+
 // cableFor is the cable price per metre the rules let medium run outdoors with the link's
-// risers and slackM of slack (media.Engine.CableFor), remembered per plan.
-func (m *Model) cableFor(medium string, rate float64, facts media.Link, slackM float64) int64 {
+// risers and slackM of slack, and the laying it prices (media.Engine.CableLayingFor),
+// remembered per plan.
+func (m *Model) cableFor(medium string, rate float64, facts media.Link, slackM float64) (media.Laying, int64) {
 	k := cableKey{medium, rate, facts.FutureRateGbps, facts.RiserM, slackM, facts.Strands}
 	if v, ok := m.cableMemo[k]; ok {
-		return v
+		return v.laying, v.perM
 	}
 	facts.Outdoor, facts.SlackM = true, slackM
-	v := m.eng.CableFor(medium, rate, facts)
-	m.cableMemo[k] = v
+	lay, perM := m.eng.CableLayingFor(medium, rate, facts)
+	m.cableMemo[k] = cabled{lay, perM}
+	return lay, perM
+}
+
+// layingKey is what lays' and layingFor's answers depend on: the medium, the laying (lays
+// only), the link's rate, strands and ends, and the span class.
+type layingKey struct {
+	medium           string
+	laying           media.Laying
+	rate, future     float64
+	riserM, slackM   float64
+	insideA, insideB float64
+	strands, copper  int
+	class            spanClass
+}
+
+func (m *Model) layingKeyOf(medium string, lay media.Laying, info demandInfo, c spanClass) layingKey {
+	f := info.facts
+	return layingKey{medium: medium, laying: lay, rate: info.rate, future: f.FutureRateGbps, riserM: f.RiserM, slackM: f.SlackM,
+		insideA: f.InsideAM, insideB: f.InsideBM, strands: f.Strands, copper: f.CopperCables, class: c}
+}
+
+// classFacts are the link's facts on a route that leaves the buildings over spans of class c
+// alone, as cableFor prices a medium (outdoors): what lays and layingFor judge a laying on.
+func classFacts(info demandInfo, c spanClass) media.Link {
+	l := c.facts(info.facts)
+	l.Outdoor = true
+	return l
+}
+
+// lays reports whether the rules let medium's cable laid as lay carry the link over spans of
+// class c (media.Engine.Lays), remembered per plan.
+func (m *Model) lays(medium string, lay media.Laying, info demandInfo, c spanClass) bool {
+	k := m.layingKeyOf(medium, lay, info, c)
+	if v, ok := m.laysMemo[k]; ok {
+		return v
+	}
+	v := m.eng.Lays(medium, lay, info.rate, classFacts(info, c))
+	m.laysMemo[k] = v
 	return v
+}
+
+// layingFor is the laying of medium the rules let carry the link over spans of class c at
+// the least cost (media.Engine.LayingFor), remembered per plan with its prices
+// (Model.layingPrices, by the laying).
+func (m *Model) layingFor(medium string, info demandInfo, c spanClass) (media.Laying, bool) {
+	k := m.layingKeyOf(medium, media.Laying{}, info, c)
+	if v, ok := m.layingMemo[k]; ok {
+		return v, v.Construction != ""
+	}
+	lay, price, ok := m.eng.LayingFor(medium, info.rate, classFacts(info, c))
+	m.layingMemo[k] = lay
+	if ok {
+		m.layingPrices[layingKey{medium: medium, laying: lay, strands: info.strands, rate: info.rate}] = price
+	}
+	return lay, ok
+}
+
+// allowedFor is allowed for the demand's medium, rate and strands, as remembered: whether
+// the rules let the medium run on class c at all.
+func (m *Model) allowedFor(medium string, info demandInfo, c spanClass) bool {
+	k := allowedKey{medium, info.rate, info.facts.FutureRateGbps, info.strands, c}
+	v, ok := m.allowedMemo[k]
+	return ok && v
 }
 
 // cableFit is the outside diameter in millimetres of the cable the duct capacity counts for

@@ -51,7 +51,8 @@ type Leg struct {
 	// served building (Link.To) and at the cross-connect (Link.From).
 	EntranceTo, EntranceFrom string
 	// Crosses lists, in travel order, the buildings the route passes through (in at one of
-	// their entrances and out at another), which the campus allows (geo.Transit).
+	// their entrances and out at another), which the campus allows (geo.Transit), and those
+	// it passes beneath in a duct drawn across them (geo.Span.Beneath).
 	Crosses []string
 	// Turns lists, in travel order, the junctions where the route turns from one pathway into
 	// another at a handhole or pull box the plan adds (geo.PassNeedsStructure); not where it
@@ -73,6 +74,10 @@ type Leg struct {
 	// Cable is the leg's cable takeoff: slack loops, length bought, reels and the mid-span
 	// splices between them, which the loss budget counts (see CableTakeoff).
 	Cable CableTakeoff
+
+	// Option is the optimizer's option the leg was routed in (optimize.Option.Name: its
+	// medium, and how it priced the cable when the medium has several; routing's optionName).
+	Option string
 
 	// Attenuators is the bill item of the attenuators a receiver needs on a channel below
 	// its application's least loss (receiver overload); empty when none.
@@ -165,9 +170,10 @@ func isTurn(lay *layout, spans, e int) bool {
 }
 
 // fillLeg sets a leg's route and its medium from the rule engine on the route's own facts;
-// the estimate prices it (package estimate). built is where the plan builds handholes
-// (passesOf).
-func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, medium string, info demandInfo, built builtOn) {
+// the estimate prices it (package estimate). option is the optimizer's option the route is
+// for (optionName). built is where the plan builds handholes (passesOf).
+func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, option string, info demandInfo, built builtOn) {
+	leg.Option = option
 	if e, ok := lay.endEntry[leg.Link.To]; ok {
 		leg.EntranceTo = e.ID
 	}
@@ -217,6 +223,13 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, me
 			continue
 		}
 		sp := &s.Net.Spans[h.Edge]
+		// The buildings the span runs beneath wall to wall (geo.Span.Beneath), in travel order.
+		for i := range sp.Beneath {
+			if !h.Forward {
+				i = len(sp.Beneath) - 1 - i
+			}
+			leg.crossing(sp.Beneath[i : i+1])
+		}
 		if k+1 < len(ol.Hops) {
 			// The junction the route passes after this span: in a building other than the
 			// leg's own, the route crosses that building (allowed there, or it would not pass).
@@ -225,11 +238,7 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, me
 				j = sp.From
 			}
 			if m, ok := s.Net.MeetingAt(j); ok {
-				for _, b := range m.Buildings {
-					if b != leg.Link.To && b != leg.Link.From && (len(leg.Crosses) == 0 || leg.Crosses[len(leg.Crosses)-1] != b) {
-						leg.Crosses = append(leg.Crosses, b)
-					}
-				}
+				leg.crossing(m.Buildings)
 			}
 		}
 		leg.Steps = append(leg.Steps, geo.Step{SpanID: sp.ID, Reverse: !h.Forward})
@@ -252,6 +261,9 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, me
 	// The spans of the route drawn inside an end's building are inside it too.
 	facts.InsideAM += interiorM(s, leg.Link.To, ol)
 	facts.InsideBM += interiorM(s, leg.Link.From, ol)
+	for _, b := range leg.Crosses {
+		facts.CrossedInsideM += interiorM(s, b, ol)
+	}
 	facts.MaxEMI = emi
 	facts.Outdoor = outdoor
 	facts.Plenum = plenum
@@ -270,15 +282,15 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, me
 		return
 	}
 	leg.Feasible = true
-	leg.Cable.Fit(cm.eng.Catalog(), ch, s.RiserM(leg.Link.To), s.RiserM(leg.Link.From), cm.design.WastePct)
+	leg.Cable.Fit(cm.eng.Catalog(), ch, facts.InsideAM, facts.InsideBM, cm.design.WastePct)
 	leg.Medium, leg.Application, leg.Construction, leg.Inside = ch.Medium, ch.Application, ch.Construction, ch.Inside
 	leg.Losses = ch.Losses
 	if q, ok := ch.AttenuatorQuantity(); ok {
 		leg.Attenuators = []media.Quantity{q}
 	}
 	leg.WorstMarginDB = worstMargin(ch.Losses)
-	if ch.Medium != medium {
-		leg.Choice += fmt.Sprintf(" (the optimizer routed it for %s)", medium)
+	if ch.Medium != optionMedium(option) {
+		leg.Choice += fmt.Sprintf(" (the optimizer routed it for %s)", optionMedium(option))
 	}
 }
 
@@ -452,4 +464,14 @@ func sharedJunctions(s *site.Site, a, b *Leg) []string {
 		}
 	}
 	return out
+}
+
+// crossing adds to the leg's Crosses each of buildings that is not one of the link's own,
+// unless the route is in it already (the last listed).
+func (leg *Leg) crossing(buildings []string) {
+	for _, b := range buildings {
+		if b != leg.Link.To && b != leg.Link.From && (len(leg.Crosses) == 0 || leg.Crosses[len(leg.Crosses)-1] != b) {
+			leg.Crosses = append(leg.Crosses, b)
+		}
+	}
 }

@@ -162,9 +162,9 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 	}
 	infeasible := map[int]string{}
 	for _, in := range sol.Infeasible {
-		facts := infos[in.Demand].facts
-		infeasible[in.Demand] = lay.explain(in, &links[in.Demand], func(medium string, c spanClass) string {
-			return m.whyNot(medium, facts, c)
+		info := infos[in.Demand]
+		infeasible[in.Demand] = lay.explain(in, &links[in.Demand], func(name string, c spanClass) string {
+			return m.whyNot(name, info, c)
 		})
 		if l := &links[in.Demand]; !m.design.AllowNewTrench {
 			if why := s.ProposedOnlyReason(l.From, l.To); why != "" {

@@ -2,6 +2,7 @@ package routing
 
 import (
 	"fmt"
+	"math"
 	"slices"
 
 	"spanwright/route/optimize"
@@ -151,7 +152,7 @@ func startRoutes(s *site.Site, lay *layout, prob *optimize.Problem, start *Start
 		if p == nil || (p.primary == nil && p.diverse == nil) {
 			continue
 		}
-		r, why := startRoute(dm, p.primary, p.diverse, walk)
+		r, why := startRoute(dm, prob.Edges, p.primary, p.diverse, walk)
 		if why != "" {
 			unfit[d] = why
 			continue
@@ -166,7 +167,13 @@ func startRoutes(s *site.Site, lay *layout, prob *optimize.Problem, start *Start
 // primary's medium (the optimizer gives a pair one medium; the rules may choose another for
 // the diverse leg on its own facts). The legs run from the
 // link's from building (the demand's Target) to its to building (Source); walk turns them.
-func startRoute(dm *optimize.Demand, primary, diverse *StartLeg, walk func(from, to int, spans []string) ([]optimize.Hop, string)) (optimize.StartRoute, string) {
+//
+// A medium may have several options (optionName): the route starts in the one of them whose
+// excluded edges its legs keep off (a route over a buried span in the option priced as the
+// cable laid there) and that is cheapest on these legs by the objective's own terms (its
+// fixed part and its cable along them; the rest is the same for every option of a medium),
+// as the optimizer gives a route its option; the first on a tie; else in the medium's first.
+func startRoute(dm *optimize.Demand, edges []optimize.Edge, primary, diverse *StartLeg, walk func(from, to int, spans []string) ([]optimize.Hop, string)) (optimize.StartRoute, string) {
 	r := optimize.StartRoute{ID: dm.ID, Option: -1}
 	switch {
 	case primary == nil:
@@ -174,15 +181,7 @@ func startRoute(dm *optimize.Demand, primary, diverse *StartLeg, walk func(from,
 	case diverse != nil && !dm.Diverse:
 		return r, "a diverse leg, and the link is not diverse in this plan"
 	}
-	for o := range dm.Options {
-		if dm.Options[o].Name == primary.Medium {
-			r.Option = o
-			break
-		}
-	}
-	if r.Option < 0 {
-		return r, fmt.Sprintf("medium %s is not one this link may use in this plan", primary.Medium)
-	}
+	var flags uint64 // of every edge the legs take
 	for _, l := range []*StartLeg{primary, diverse} {
 		if l == nil {
 			continue
@@ -191,7 +190,46 @@ func startRoute(dm *optimize.Demand, primary, diverse *StartLeg, walk func(from,
 		if why != "" {
 			return optimize.StartRoute{ID: dm.ID, Option: -1}, l.Leg + " leg: " + why
 		}
+		for _, h := range hops {
+			flags |= edges[h.Edge].Flags
+		}
 		r.Legs = append(r.Legs, hops)
+	}
+	first, best := -1, int64(0)
+	for o := range dm.Options {
+		op := &dm.Options[o]
+		if optionMedium(op.Name) != primary.Medium {
+			continue
+		}
+		if first < 0 {
+			first = o
+		}
+		if op.ExcludeFlags&flags != 0 {
+			continue
+		}
+		c := op.FixedCents
+		if len(r.Legs) > 1 {
+			c += op.SecondLegCents
+		}
+		for _, hops := range r.Legs {
+			for _, h := range hops {
+				e := &edges[h.Edge]
+				m := e.CableM
+				if m == 0 {
+					m = e.LengthM
+				}
+				c += int64(math.Round(m * float64(op.CablePerMCents)))
+			}
+		}
+		if r.Option < 0 || c < best {
+			r.Option, best = o, c
+		}
+	}
+	if r.Option < 0 {
+		r.Option = first
+	}
+	if r.Option < 0 {
+		return optimize.StartRoute{ID: dm.ID, Option: -1}, fmt.Sprintf("medium %s is not one this link may use in this plan", primary.Medium)
 	}
 	return r, ""
 }

@@ -28,7 +28,8 @@ func startOfSolution(nSpans int, prob *optimize.Problem, sol *optimize.Solution)
 			if len(leg.Hops) == 0 {
 				continue
 			}
-			l := StartLeg{Link: prob.Demands[r.Demand].ID, Leg: []string{LegPrimary, LegDiverse}[i], Medium: r.Medium, Spans: []string{}}
+			l := StartLeg{Link: prob.Demands[r.Demand].ID, Leg: []string{LegPrimary, LegDiverse}[i], Medium: optionMedium(r.Medium), // as routes.geojson writes it: the catalog medium
+				Spans: []string{}}
 			for k := len(leg.Hops) - 1; k >= 0; k-- {
 				if e := leg.Hops[k].Edge; e < nSpans {
 					l.Spans = append(l.Spans, prob.Edges[e].ID)

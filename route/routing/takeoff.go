@@ -48,15 +48,18 @@ type CableTakeoff struct {
 	Terminated int
 
 	// With an entrance transition (Leg.Inside): the part of LengthM bought as the inside
-	// construction, which runs the risers and the service coils at both ends (with waste),
+	// construction, which runs inside the end buildings (InsideRunM, with waste),
 	// in InsideCables cables of InsideSize; the rest of LengthM is the outside-plant cable.
 	// Each inside cable is two pieces, one at each end, cut to InsideToM at the served
 	// building (Link.To) and InsideFromM at the cross-connect (Link.From); InsideLengthM is
 	// their sum.
 	InsideLengthM          float64
 	InsideToM, InsideFromM float64
-	InsideSize             media.Size
-	InsideCables           int
+	// InsideRunM is the inside cable's run before waste: the cable inside the end buildings
+	// the media engine spliced on (media.Choice.InsideM); 0 without a transition.
+	InsideRunM   float64
+	InsideSize   media.Size
+	InsideCables int
 }
 
 // OutsideLengthM is the length bought of the leg's own construction: all of LengthM, or
@@ -370,18 +373,29 @@ func joinsUpToM(d plan.Design, joins int) float64 {
 }
 
 // Fit fills the takeoff's cable size from the rule engine's choice; with an entrance
-// transition, also the inside cable: at each end a piece that takes that end's riser (riserToM
-// at the served building, riserFromM at the cross-connect) and service coil, with the design's
-// waste, cut to a whole metre, as a crew cuts each piece from its reel.
-func (t *CableTakeoff) Fit(cat *media.Catalog, ch media.Choice, riserToM, riserFromM, wastePct float64) {
+// transition, also the inside cable, which takes what the engine laid inside the end
+// buildings (media.Choice.InsideM: risers, service coils, entrance loops, in-building trays):
+// at each end a piece of that end's share (insideToM at the served building, Link.To;
+// insideFromM at the cross-connect, Link.From: media.Link.InsideAM and InsideBM), with the
+// design's waste, cut to a whole metre, as a crew cuts each piece from its reel.
+func (t *CableTakeoff) Fit(cat *media.Catalog, ch media.Choice, insideToM, insideFromM, wastePct float64) {
 	m := cat.Medium(ch.Medium)
 	t.Size, t.Cables = m.Construction(ch.Construction).Fit(ch.Strands)
 	t.Terminated = ch.Strands
 	if ch.Inside != "" {
 		t.InsideSize, t.InsideCables = m.Construction(ch.Inside).Fit(ch.Strands)
-		piece := func(riserM float64) float64 { return math.Ceil((riserM+t.EndSlackM/2)*(1+wastePct/100) - 1e-9) }
-		t.InsideToM = math.Min(t.LengthM, piece(riserToM))
-		t.InsideFromM = math.Min(t.LengthM-t.InsideToM, piece(riserFromM))
+		t.InsideRunM = ch.InsideM
+		// ch.InsideM is the two ends' share together, at most the channel: the ends' shares
+		// scaled to it when it was cut short, halves when the link gave none.
+		to, from := insideToM, insideFromM
+		if sum := to + from; sum <= 0 {
+			to, from = ch.InsideM/2, ch.InsideM/2
+		} else if sum > ch.InsideM {
+			to, from = to*ch.InsideM/sum, from*ch.InsideM/sum
+		}
+		piece := func(m float64) float64 { return math.Ceil(m*(1+wastePct/100) - 1e-9) }
+		t.InsideToM = math.Min(t.LengthM, piece(to))
+		t.InsideFromM = math.Min(t.LengthM-t.InsideToM, piece(from))
 		t.InsideLengthM = t.InsideToM + t.InsideFromM
 	}
 }
