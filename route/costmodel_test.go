@@ -489,9 +489,9 @@ func objectiveOf(r *route.Result, prob *optimize.Problem, pb *media.PriceBook, l
 	return c
 }
 
-// intoJoiningRuns counts the junctions where leg l turns from the network into a joining span
-// that is a run of its own there, or out of one into the network (runAlone on one side, not
-// both): the turn edges of half a crew share (routing's layout.turnShare).
+// intoJoiningRuns counts the junctions where leg l turns from the network into a joining run
+// there, or out of one into the network (inJoiningRun on one side, not both): the turn edges
+// of half a crew share (routing's layout.turnShare).
 func intoJoiningRuns(r *route.Result, l *routing.Leg) int {
 	n := 0
 	for k := 1; k < len(l.Steps); k++ {
@@ -501,7 +501,7 @@ func intoJoiningRuns(r *route.Result, l *routing.Leg) int {
 		if l.Steps[k-1].Reverse {
 			j = a.From
 		}
-		if runAlone(r, &a, j) != runAlone(r, &b, j) {
+		if inJoiningRun(r, &a, j) != inJoiningRun(r, &b, j) {
 			n++
 		}
 	}
@@ -526,6 +526,11 @@ func passPart(r *route.Result, pb *media.PriceBook, l *routing.Leg, opt *optimiz
 	for _, st := range l.Steps {
 		sp, _ := r.Site.Net.Span(st.SpanID)
 		priced += 0.5 * items.JoinEnds(r.Site, &sp)
+		for _, j := range []string{sp.From, sp.To} {
+			if i := slices.IndexFunc(r.Site.Net.Spans, func(s geo.Span) bool { return s.ID == sp.ID }); sp.Status == geo.StatusProposed && r.Site.JoinsNetwork(j) && carriedOn(r, i, j) {
+				priced -= 0.5 // carried on from a street's duct: no half there (routing's layout.joinEnds)
+			}
+		}
 	}
 	for _, end := range [][2]string{{l.Link.To, l.EntranceTo}, {l.Link.From, l.EntranceFrom}} {
 		for _, e := range r.Site.Net.EntrancesOf(end[0]) {
@@ -549,11 +554,12 @@ func passPart(r *route.Result, pb *media.PriceBook, l *routing.Leg, opt *optimiz
 	return c + sum(items.Times(cables, items.AtJunctions(pb, n-turns, n-turns)...))
 }
 
-// runAlone reports whether sp is a joining span that is a run of its own at junction j, a
-// junction split for turns: a route into or out of it there pays half of the crew's work at
-// j's handhole on the turn edge and half on the span (routing's layout.turnShare).
-func runAlone(r *route.Result, sp *geo.Span, j string) bool {
-	if sp.Status != geo.StatusProposed || !slices.Contains(r.Site.TurnsNeedingStructure(), j) || !r.Site.JoinsNetwork(j) {
+// inJoiningRun reports whether sp is in a joining run at junction j, a junction split for turns
+// where new pathway joins the network: a run of duct through j (geo.Network.RunsAt) of
+// proposed spans only. A route into or out of it there pays half of the crew's work at j's
+// handhole on the turn edge and half on the joining span (routing's layout.turnShare).
+func inJoiningRun(r *route.Result, sp *geo.Span, j string) bool {
+	if !slices.Contains(r.Site.TurnsNeedingStructure(), j) || !r.Site.JoinsNetwork(j) {
 		return false
 	}
 	var at []int
@@ -563,8 +569,13 @@ func runAlone(r *route.Result, sp *geo.Span, j string) bool {
 		}
 	}
 	for _, run := range r.Site.Net.RunsAt(j, at) {
-		if len(run) == 1 && r.Site.Net.Spans[run[0]].ID == sp.ID {
-			return true
+		in, allNew := false, true
+		for _, i := range run {
+			in = in || r.Site.Net.Spans[i].ID == sp.ID
+			allNew = allNew && r.Site.Net.Spans[i].Status == geo.StatusProposed
+		}
+		if in {
+			return allNew
 		}
 	}
 	return false

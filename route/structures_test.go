@@ -52,7 +52,7 @@ func TestStructuresPassedOneCount(t *testing.T) {
 				t.Errorf("%s %s: reel %d of %v m, want whole metres up to %v", l.Link.ID, l.Name, k+1, m, d.ReelM)
 			}
 		}
-		if sum != c.LengthM || len(c.ReelsM) != c.Reels || c.Joins != c.Reels-1 || len(c.Splices) != c.Joins {
+		if sum != c.OutsideLengthM() || len(c.ReelsM) != c.Reels || c.Joins != c.Reels-1 || len(c.Splices) != c.Joins {
 			t.Errorf("%s %s: reels %v (%d, %d joins at %v) for %v m bought", l.Link.ID, l.Name, c.ReelsM, c.Reels, c.Joins, c.Splices, c.LengthM)
 		}
 		for _, sp := range c.Splices {

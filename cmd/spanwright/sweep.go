@@ -184,7 +184,7 @@ func printReport(w io.Writer, rep *sweep.Report, shard sweep.Shard) {
 		fmt.Fprintf(w, "  failed %s: %s\n", escape.Terminal(r.ID), escape.Terminal(strings.ReplaceAll(r.Error, "\n", "; ")))
 	}
 	if rep.Incomplete > 0 {
-		fmt.Fprintf(w, "note: %s ok but not ranked: the price book leaves items out of the total (pareto \"no (incomplete)\"; see compare.md's notes)\n", scenarios(rep.Incomplete))
+		fmt.Fprintf(w, "note: %s ok but ranked apart: the price book leaves items out of the total, so each is ranked only among scenarios leaving out the same items (rank and pareto say \"(without …)\"; see compare.md's notes)\n", scenarios(rep.Incomplete))
 	}
 	if rep.DemoPrices > 0 {
 		fmt.Fprintf(w, "warning: %s priced by the invented demo price book built into spanwright: not a quotation (see each summary.json)\n", scenarios(rep.DemoPrices))

@@ -42,9 +42,13 @@ type Estimate struct {
 	// billed as a handhole; legs that need one at the same place share it.
 	AddedPullPoints int
 	Fill            []DuctFill // each duct holding cable on a span of limited capacity, by span and duct
-	Buildings       []Connectivity
-	Construction    Construction
-	Quantities      []media.Quantity // what the BOM prices, before merging
+	// SplicePoints is every splice point to build (a mid-span join no structure within its
+	// reel's reach takes, routing.SplicePoint.NoStructure), one a place, in the order the legs
+	// first join there: the bill's count (SplicePointItem) and the structures table's rows.
+	SplicePoints []SplicePointToBuild
+	Buildings    []Connectivity
+	Construction Construction
+	Quantities   []media.Quantity // what the BOM prices, before merging
 	// Bases are the quantities bid items are priced per unit of, counted once (bidBases); the
 	// zero value when the price book has no bid items.
 	Bases         media.BidBases
@@ -1210,6 +1214,14 @@ func PatchCordItem(cat *media.Catalog, l *routing.Leg) string {
 	return item
 }
 
+// SplicePointToBuild is one splice point to build: its place (the first leg's join there;
+// on a span when Span is set, else off the spans along that leg's cable) and the legs joining
+// there, as indexes into the result's legs, in leg order.
+type SplicePointToBuild struct {
+	At   routing.SplicePoint
+	Legs []int
+}
+
 // SplicePointItem is the bill item of a splice point built where a mid-span splice has no
 // maintenance hole or handhole within its reel's reach (routing.SplicePoint.NoStructure).
 const SplicePointItem = "splice point to build, mid-span splice with no structure within reach"
@@ -1421,21 +1433,31 @@ func (r *run) quantities() {
 	// splice_point_each, or listed not priced (media.PriceBook.NotPriced), so
 	// that the total and summary.json's not_priced say they are left out. Like the added pull
 	// points, not in any leg's cost.
-	places, joined := map[string]bool{}, []string(nil)
+	places, joined := map[string]int{}, []string(nil)
+	e.SplicePoints = nil
 	for i := range r.Legs {
 		l := &r.Legs[i]
 		if !l.Feasible {
 			continue
 		}
 		for _, sp := range l.Cable.Splices {
-			if sp.NoStructure {
-				places[sp.Text(MetresText)] = true
-				joined = append(joined, fromLeg(l))
+			if !sp.NoStructure {
+				continue
 			}
+			k, ok := places[sp.Text(MetresText)]
+			if !ok {
+				k = len(e.SplicePoints)
+				places[sp.Text(MetresText)] = k
+				e.SplicePoints = append(e.SplicePoints, SplicePointToBuild{At: sp})
+			}
+			if legs := e.SplicePoints[k].Legs; len(legs) == 0 || legs[len(legs)-1] != i {
+				e.SplicePoints[k].Legs = append(legs, i)
+			}
+			joined = append(joined, fromLeg(l))
 		}
 	}
 	e.Quantities = append(e.Quantities, media.Quantity{Category: media.CategoryConstruction, Item: SplicePointItem,
-		Unit: media.UnitEach, Amount: float64(len(places)), Price: media.PriceKey{Item: media.PriceSplicePoint}, From: joined})
+		Unit: media.UnitEach, Amount: float64(len(e.SplicePoints)), Price: media.PriceKey{Item: media.PriceSplicePoint}, From: joined})
 	if len(p.BidItems) > 0 {
 		e.Bases = r.bidBases()
 		for _, q := range p.BidQuantities(e.Bases) {

@@ -438,7 +438,7 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 			workbook.Int(int64(l.StrandsCable)), workbook.Int(int64(t.Cables)), workbook.Number(u.MM(t.Size.ODMM), 1),
 			workbook.Number(u.M(l.RouteM), 1), workbook.Number(u.M(l.RiserM), 1), workbook.Number(u.M(t.SlackM()), 1),
 			workbook.Int(int64(t.Structures)), workbook.Number(u.M(t.LengthM), 1), workbook.Int(int64(t.Reels)),
-			workbook.Int(int64(t.Joins)), workbook.Text(ReelsText(opt, OutsideReelsM(t))), workbook.Text(SplicesText(opt, t.Splices)),
+			workbook.Int(int64(t.Joins)), workbook.Text(ReelsText(opt, t.ReelsM)), workbook.Text(SplicesText(opt, t.Splices)),
 			workbook.Int(int64(pullsOf[i])), workbook.Number(u.N(hi), 1), workbook.Number(u.N(rated), 1),
 			workbook.Cents(l.Cost.TotalCents()), workbook.Bool(true), workbook.Text(InUnits(opt, l.Reason)))
 		inside := []workbook.Cell{workbook.Blank(), workbook.Blank(), workbook.Blank(), workbook.Blank()}

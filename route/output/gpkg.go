@@ -47,6 +47,12 @@ const (
 	PurposePull = "pull"              // an intermediate pull point the pulling plan adds (estimate.Estimate.AddedPullPoints)
 	PurposeRun  = "run"               // along new construction, at handhole_spacing_m or the bend budget (site.NewRuns)
 	PurposeTap  = routing.PurposeTap  // where a counted lateral taps the side of a duct (site.Site.Tap)
+	// A splice point to build: a mid-span join with no structure within its reel's reach
+	// (estimate.Estimate.SplicePoints), a handhole, or on an aerial span a splice closure on
+	// the strand (TypeSpliceClosure).
+	PurposeSplice = "splice"
+	// TypeSpliceClosure is the type of a splice point built on an aerial span.
+	TypeSpliceClosure = "splice closure"
 )
 
 // gpkgLayers are plan.gpkg's layers, their columns and what each holds: the README's table
@@ -103,7 +109,7 @@ func gpkgLayers() []gpkgout.Layer {
 			Columns: []gpkgout.Column{
 				c("junction", tx, "junction id; none for a pull point on a span"),
 				c("span", tx, "span id of a pull point on a span"), c("at_m", re, "its distance from the span's from end, metres"),
-				c("purpose", tx, "join (an opened pathway joins there), tap (a counted lateral taps the side of a duct), turn (a route turns between pathways), run (along new construction, at the design's spacing or bend budget) or pull (the pulling plan needs a pull point); one row per junction, under the first of join, tap and turn that it is for"),
+				c("purpose", tx, "join (an opened pathway joins there), tap (a counted lateral taps the side of a duct), turn (a route turns between pathways), run (along new construction, at the design's spacing or bend budget) pull (the pulling plan needs a pull point) or splice (a mid-span join with no structure within its reel's reach: a splice point to build); one row per junction, under the first of join, tap and turn that it is for"),
 				c("links_text", tx, "links whose legs turn, tap or are pulled there, joined by |"),
 			}},
 		{Name: LayerAllStructures, Geometry: gpkgout.Point,
@@ -113,8 +119,8 @@ func gpkgLayers() []gpkgout.Layer {
 				c("structure", tx, "structure or junction id; none for a handhole on a span or lateral"),
 				c("span", tx, "for a handhole on a span: the span id (a lateral's: lateral of and its entrance)"),
 				c("at_m", re, "its distance from the span's from end (a lateral's building end), metres"),
-				c("status", tx, "existing or to build"), c("type", tx, "maintenance-hole, handhole or pull-box; to build: handhole"),
-				c("purpose", tx, "to build: join, tap, turn, run or pull (as added_structures); existing: slack loop, pull point (both joined by a comma) or passed"),
+				c("status", tx, "existing or to build"), c("type", tx, "maintenance-hole, handhole or pull-box; to build: handhole, or splice closure (a splice point on an aerial span's strand)"),
+				c("purpose", tx, "to build: join, tap, turn, run, pull or splice (as added_structures); existing: slack loop, pull point (both joined by a comma) or passed"),
 				c("legs_text", tx, "legs through it, link/leg, joined by |"),
 			}},
 		{Name: LayerBuildings, Geometry: gpkgout.MultiPolygon,
@@ -357,6 +363,16 @@ func planLayers(ctx context.Context, r *route.Result, sts func() (structureList,
 			return nil, fmt.Errorf("pull point on %s: not a span of the network", p.span)
 		}
 		add(LayerStructures, sp.PointAt(p.offM), nil, p.span, round1(p.offM), PurposePull, ListText(p.links))
+	}
+
+	for _, sp := range splicePointsOnSpans(r) {
+		var links []string
+		for _, i := range sp.Legs {
+			if id := r.Legs[i].Link.ID; !slices.Contains(links, id) {
+				links = append(links, id)
+			}
+		}
+		add(LayerStructures, sp.point, nil, sp.At.Span, round1(sp.At.AtM), PurposeSplice, ListText(links))
 	}
 
 	// The structures table.

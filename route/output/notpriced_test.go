@@ -4,6 +4,8 @@ import (
 	"bytes"
 	"context"
 	"fmt"
+	"maps"
+	"math"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -12,6 +14,7 @@ import (
 	"strings"
 	"testing"
 
+	"spanwright/geo"
 	"spanwright/media"
 	"spanwright/route"
 	"spanwright/route/estimate"
@@ -317,5 +320,59 @@ func TestSplicePointsNotPriced(t *testing.T) {
 	}
 	if d := lines(r2.Estimate.BOM) - lines(r.Estimate.BOM); d != int64(len(places))*240000 {
 		t.Errorf("priced: lines up by %d cents, want %d", d, int64(len(places))*240000)
+	}
+}
+
+// TestSplicePointsInStructuresTable plans the demo with reels of 400 m and holds the structures
+// table (and so plan.gpkg's structures layer and report) and the added_structures layer to the
+// bill: every splice point to build on a span is a "to build" row of purpose splice at the
+// place the leg's join was put, naming the legs that join there, one row a place (review 4
+// F8: the bill counted them, no table listed them). Expected places are taken from the legs'
+// joins, keyed by span and offset to 0.1 m (the schedule's precision), not from the bill.
+func TestSplicePointsInStructuresTable(t *testing.T) {
+	t.Parallel()
+	s, p := testsite.Demo(t)
+	q := *p
+	q.Design.ReelM = 400
+	r := testplan.SolvePlan(t, s, &q)
+	type key struct {
+		span string
+		dm   int64
+	}
+	want := map[key][]string{}
+	for _, l := range r.Legs {
+		for _, sp := range l.Cable.Splices {
+			if l.Feasible && sp.NoStructure && sp.Span != "" {
+				k := key{sp.Span, int64(math.Round(sp.AtM * 10))}
+				if legs := want[k]; !slices.Contains(legs, l.Label()) {
+					want[k] = append(legs, l.Label())
+				}
+			}
+		}
+	}
+	if len(want) == 0 {
+		t.Fatal("no splice point to build on a span: nothing to test")
+	}
+	rows, err := StructuresOf(r)
+	if err != nil {
+		t.Fatal(err)
+	}
+	got := map[key][]string{}
+	for _, st := range rows {
+		if st.Purpose != PurposeSplice {
+			continue
+		}
+		k := key{st.Span, int64(math.Round(st.AtM * 10))}
+		if _, twice := got[k]; twice || st.Status != StructureToBuild || st.Type != geo.StructureHandhole && st.Type != TypeSpliceClosure {
+			t.Errorf("splice row %+v: want one %s handhole or closure a place", st, StructureToBuild)
+		}
+		got[k] = st.Legs
+	}
+	if !maps.EqualFunc(got, want, slices.Equal) {
+		t.Errorf("structures table's splice points %v, the legs' joins %v", got, want)
+	}
+	line, ok := testplan.BOMLine(r.Estimate.BOM, estimate.SplicePointItem)
+	if !ok || line.Quantity != float64(len(r.Estimate.SplicePoints)) || len(r.Estimate.SplicePoints) < len(want) {
+		t.Errorf("bill's splice points %v, estimate's list %d, on spans %d", line.Quantity, len(r.Estimate.SplicePoints), len(want))
 	}
 }

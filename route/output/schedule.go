@@ -1,7 +1,6 @@
 package output
 
 import (
-	"slices"
 	"strconv"
 	"strings"
 
@@ -128,20 +127,5 @@ func InsideLabels(r *route.Result, i int) []string {
 			out = append(out, cableLabel(l, first+j)+":"+b)
 		}
 	}
-	return out
-}
-
-// OutsideReelsM is the lengths cut from the reels of a leg's own construction (t.ReelsM),
-// in metres, in travel order from the served building: with an entrance transition the
-// inside pieces are other cable, so the first reel gives up the piece at the served building
-// (InsideToM) and the last the piece at the cross-connect (InsideFromM); they sum to
-// t.OutsideLengthM(), links.csv's cut_length. Without a transition, t.ReelsM.
-func OutsideReelsM(t routing.CableTakeoff) []float64 {
-	if t.InsideLengthM == 0 || len(t.ReelsM) == 0 {
-		return t.ReelsM
-	}
-	out := slices.Clone(t.ReelsM)
-	out[0] = max(0, out[0]-t.InsideToM)
-	out[len(out)-1] = max(0, out[len(out)-1]-t.InsideFromM)
 	return out
 }

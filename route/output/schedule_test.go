@@ -185,7 +185,7 @@ func TestOutsideReels(t *testing.T) {
 		if !l.Feasible {
 			continue
 		}
-		reels := OutsideReelsM(l.Cable)
+		reels := l.Cable.ReelsM
 		sum := 0.0
 		for _, m := range reels {
 			sum += m

@@ -43,7 +43,7 @@ type Structure struct {
 	// Type is the structure's type (geo.Structure.Type: maintenance-hole, handhole,
 	// pull-box); a structure to build is a handhole.
 	Type string
-	// Purpose says why it is built (join, tap, turn, run or pull: the added_structures
+	// Purpose says why it is built (join, tap, turn, run, pull or splice: the added_structures
 	// layer's purposes) or what the plan does at an existing one (slack loop, pull point,
 	// both joined by ", ", or passed).
 	Purpose string
@@ -59,7 +59,8 @@ func (s Structure) Place(length func(m float64) string) string {
 
 // StructuresOf lists the structures of the plan: first the handholes it adds (at junctions,
 // by junction id; along new construction, by span and offset; the pulling plan's, as
-// addedPullPoints sorts them), then the existing structures its feasible legs pass, by id.
+// addedPullPoints sorts them; the splice points to build on spans, as the estimate lists
+// them, splicePointsOnSpans), then the existing structures its feasible legs pass, by id.
 // Marks number them in that order; rows may share their Legs, which are not to be changed.
 // The legs of a maintenance hole or handhole where slack loops are stored (one the plan adds
 // at a junction or along new construction, or an existing one, site.Site.LoopStructure) are
@@ -195,6 +196,14 @@ func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 		}
 		add(s)
 	}
+	for _, sp := range splicePointsOnSpans(r) {
+		legs := make([]string, 0, len(sp.Legs))
+		for _, i := range sp.Legs {
+			legs = append(legs, r.Legs[i].Label())
+		}
+		add(Structure{Span: sp.At.Span, AtM: sp.At.AtM, Status: StructureToBuild, Type: sp.typ, Purpose: PurposeSplice,
+			Point: sp.point, Legs: legs})
+	}
 	// Existing structures passed, with what is done there.
 	pulled := map[string]bool{}
 	if r.Estimate != nil {
@@ -226,4 +235,34 @@ func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 			Point: st.Point, Legs: legs})
 	}
 	return out, nil
+}
+
+// splicePoint is a splice point to build on a span, where it stands and what is built.
+type splicePoint struct {
+	estimate.SplicePointToBuild
+	point orb.Point
+	typ   string // a handhole, or on an aerial span a splice closure on the strand
+}
+
+// splicePointsOnSpans is the plan's splice points to build that stand on a span
+// (estimate.Estimate.SplicePoints), in its order, for the structures table and the
+// added_structures layer. One off the spans (in a riser, a slack loop or a lateral) has no
+// place on the map; the bill and the warnings name it.
+func splicePointsOnSpans(r *route.Result) []splicePoint {
+	if r.Estimate == nil {
+		return nil
+	}
+	var out []splicePoint
+	for _, sp := range r.Estimate.SplicePoints {
+		span, ok := r.Site.Net.Span(sp.At.Span)
+		if sp.At.Span == "" || !ok {
+			continue
+		}
+		typ := geo.StructureHandhole
+		if span.Type == geo.TypeAerial {
+			typ = TypeSpliceClosure
+		}
+		out = append(out, splicePoint{SplicePointToBuild: sp, point: span.PointAt(sp.At.AtM), typ: typ})
+	}
+	return out
 }

@@ -147,7 +147,7 @@ func sweepViewOf(c *sweep.Comparison, opt SweepOptions) *sweepView {
 			if j.Incomplete() {
 				v.Incomplete++
 			}
-			if j.Rank == 1 && cheapest == nil {
+			if j.Rank == 1 && cheapest == nil && !j.Incomplete() {
 				cheapest = j
 			}
 		case sweep.StatusInfeasible:
@@ -155,7 +155,7 @@ func sweepViewOf(c *sweep.Comparison, opt SweepOptions) *sweepView {
 		default:
 			v.Failed++
 		}
-		if j.Pareto {
+		if j.Pareto && !j.Incomplete() {
 			v.Pareto++
 		}
 		if j.DemoPrices {
@@ -232,7 +232,7 @@ func sweepRowOf(j *sweep.Judged, keys []string, lu output.Units) sweepRow {
 	row.Cells = append(row.Cells, text(j.Status), moneyc(j.TotalCents, planned), budget,
 		over, intc(j.InfeasibleLegs, planned), margin, trench,
 		intc(j.DiverseLinks, planned), spof, intc(j.DiverseMissing, planned), text(j.MediaMix),
-		intc(j.Rank, j.Rank > 0), pareto, intc(j.Warnings, planned), text(j.Error))
+		rankc(&j.Row, j.Rank), pareto, intc(j.Warnings, planned), text(j.Error))
 	return row
 }
 
@@ -318,7 +318,7 @@ func scatterOf(c *sweep.Comparison) scatter {
 			p.Class = "pt pt-infeasible"
 		case j.Incomplete():
 			p.Class = "pt pt-incomplete"
-			p.Title += ", not ranked: its total leaves out items not priced"
+			p.Title += ", ranked apart: its total leaves out " + j.Exclusion() + ", ranked " + sweep.RankText(&j.Row, j.Rank)
 		case j.Pareto:
 			p.Class = "pt pt-pareto"
 			p.Label = "#" + strconv.Itoa(j.Index)
@@ -369,4 +369,14 @@ func decimals(ticks []float64) int {
 	step := ticks[1] - ticks[0]
 	d := int(math.Max(0, math.Ceil(-math.Log10(step)+1e-9)))
 	return min(d, 3)
+}
+
+// rankc is a scenario's rank cell: the rank, sorting as a number, with what an incomplete
+// total leaves out (sweep.RankText).
+func rankc(r *sweep.Row, rank int) sweepCell {
+	if rank <= 0 {
+		return sweepCell{}
+	}
+	n := strconv.Itoa(rank)
+	return sweepCell{Text: sweep.RankText(r, rank), Sort: n}
 }

@@ -293,7 +293,7 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 		// the junction is split for turns, its crew share on the turn edge, layout.turnShare).
 		// Each is a structure passed as the campus's are (passesOf): a slack loop, a crew
 		// entry, the bid items per structure passed.
-		hh := float64(len(runHH[sp.ID])) + 0.5*items.JoinEnds(s, sp)
+		hh := float64(len(runHH[sp.ID])) + 0.5*lay.joinEnds(s, i)
 		loops := (items.LoopM(s, d, sp.From)+items.LoopM(s, d, sp.To))/2 + hh*d.SlackLoopStructureM
 		// The loops count in the channel too (the loss budget's), so in the reach (ReachM).
 		e := optimize.Edge{ID: sp.ID, From: int(u), To: int(v), LengthM: sp.LengthM, CableM: items.Wasted(d, sp.LengthM+loops), ReachM: sp.LengthM + loops,

@@ -12,6 +12,7 @@ import (
 	"weak"
 
 	"spanwright/geo"
+	"spanwright/route/items"
 	"spanwright/route/site"
 )
 
@@ -37,10 +38,13 @@ import (
 //     straightOnDeg of a straight line, as one duct bank drawn as several pathways, and two
 //     pathways of the same ducts that meet at a bend of the duct, as a facilities GIS splits
 //     one where another joins it) joined by turn edges of no length: a route that turns there
-//     from one run into another takes a turn edge (geo.PassNeedsStructure). A run of one
-//     proposed span that joins the network there is marked (joinNode): the handhole its joining
-//     adds is the one a route turning into it passes, and the crew's work there is shared
-//     between the turn edge and the span (turnShare).
+//     from one run into another takes a turn edge (geo.PassNeedsStructure). A run of
+//     proposed spans only (one, or pieces of new pathway carried on through the junction),
+//     where new pathway joins the network, is marked (joinNode): the handhole its joining adds
+//     is the one a route turning into it passes, and the crew's work there is shared between
+//     the turn edge and the span (turnShare). In a run where new pathway carries on a street's
+//     duct the new span's end there is priced nothing and the turn edges are ordinary
+//     (carriedEnd, joinEnds), so no route pays more than the one pass the bill counts.
 //   - A handhole at a junction without a structure — where the route turns (a turn edge),
 //     where new pathway joins the network (an opened proposed span ends, site.JoinsNetwork),
 //     or where the counted lateral of an entrance used taps a duct (the entrance edges of a
@@ -96,14 +100,19 @@ type layout struct {
 	end       map[string]int
 	endEntry  map[string]geo.Entry // a building ending at one entrance: that entrance
 	noTransit []bool
-	// joinNode marks, by node, a run of one proposed span at a junction split for turns where
-	// new pathway joins the network (site.JoinsNetwork): a route along that span passes the
+	// joinNode marks, by node, a run of proposed spans only at a junction split for turns where
+	// new pathway joins the network (site.JoinsNetwork): a route along one of them passes the
 	// handhole its joining adds, turning there or not (turnShare).
-	joinNode  []bool
-	charges   []junctionCharge
-	entrances []entranceEdges // of buildings with several entrances, in building then entrance order
-	groups    int             // the shared-risk groups the entrance copies use, numbered after the spans'
-	lateral   bool            // some entrance edge carries a lateral
+	joinNode []bool
+	// carriedEnd marks, by span index, its ends (From, To) where new pathway joins the network
+	// at a junction split for turns in a run with a span that is not new (new pathway carrying
+	// on a street's duct): the span's end is not priced half a pass there (joinEnds), and the
+	// turn edges into that run are ordinary ones, so a route pays one pass there at most.
+	carriedEnd [][2]bool
+	charges    []junctionCharge
+	entrances  []entranceEdges // of buildings with several entrances, in building then entrance order
+	groups     int             // the shared-risk groups the entrance copies use, numbered after the spans'
+	lateral    bool            // some entrance edge carries a lateral
 	// groupOf numbers the spans' shared-risk groups (geo.Span.Group) from 1, in name order.
 	groupOf map[string]int
 	// classes are the span classes of the campus in a fixed order, and classBit each one's
@@ -142,7 +151,7 @@ func (l *layout) isExtra(spans, e int) (*extraEdge, bool) {
 // span classes.
 func newLayout(s *site.Site) *layout {
 	net := s.Net
-	l := &layout{end: map[string]int{}, endEntry: map[string]geo.Entry{}, spanEnds: make([][2]int, len(net.Spans)),
+	l := &layout{end: map[string]int{}, endEntry: map[string]geo.Entry{}, spanEnds: make([][2]int, len(net.Spans)), carriedEnd: make([][2]bool, len(net.Spans)),
 		groupOf: map[string]int{}}
 	var names []string
 	for _, sp := range net.Spans {
@@ -255,7 +264,16 @@ func newLayout(s *site.Site) *layout {
 				for _, i := range run {
 					l.setEnd(net, i, jn.ID, n)
 				}
-				if joins && len(run) == 1 && net.Spans[run[0]].Status == geo.StatusProposed {
+				switch {
+				case !joins || !slices.ContainsFunc(run, func(i int) bool { return net.Spans[i].Status == geo.StatusProposed }):
+				case slices.ContainsFunc(run, func(i int) bool { return net.Spans[i].Status != geo.StatusProposed }):
+					for _, i := range run {
+						if net.Spans[i].Status != geo.StatusProposed {
+							continue
+						}
+						l.carriedEnd[i] = [2]bool{l.carriedEnd[i][0] || net.Spans[i].From == jn.ID, l.carriedEnd[i][1] || net.Spans[i].To == jn.ID}
+					}
+				default:
 					l.markJoin(n)
 				}
 			}
@@ -358,7 +376,8 @@ func newLayout(s *site.Site) *layout {
 	return l
 }
 
-// markJoin records node n as a run of one proposed span that joins the network there.
+// markJoin records node n as a run, with a proposed span in it, where new pathway joins the
+// network.
 func (l *layout) markJoin(n int) {
 	for len(l.joinNode) <= n {
 		l.joinNode = append(l.joinNode, false)
@@ -366,8 +385,22 @@ func (l *layout) markJoin(n int) {
 	l.joinNode[n] = true
 }
 
-// isJoin reports whether node n is a run of one joining proposed span (markJoin).
+// isJoin reports whether node n is a joining run (markJoin).
 func (l *layout) isJoin(n int) bool { return n < len(l.joinNode) && l.joinNode[n] }
+
+// joinEnds is the ends of span i the optimizer prices half a pass at (items.JoinEnds), less
+// those in a run carried on from a span that is not new (carriedEnd): there a route from the
+// street's duct straight on into the new span would pay half, and one turning into the run a
+// whole share on the turn edge besides; the plan's evaluation prices the rest (passGapCents).
+func (l *layout) joinEnds(s *site.Site, i int) float64 {
+	n := items.JoinEnds(s, &s.Net.Spans[i])
+	for _, c := range l.carriedEnd[i] {
+		if c {
+			n--
+		}
+	}
+	return n
+}
 
 // Crew shares at a junction split for turns where new pathway joins (joinNode). A route along
 // a joining span passes a pull point and enters a handhole where it joins (items.JoinEnds, on
@@ -387,6 +420,11 @@ func (l *layout) isJoin(n int) bool { return n < len(l.joinNode) && l.joinNode[n
 // turns the leg lists for a pass over turn edges. (A route that reached a joining span's node
 // by an entrance edge, not along the span, and turned on would pay the optimizer half a share
 // less than the bill; the entrance has an edge to every run there, so no plan takes that way.)
+// A run where new pathway carries on a street's duct is not a joining run: its new span's end
+// there is priced nothing (joinEnds), a route turning into it pays the turn edge's 1, one
+// straight on from the street's duct nothing, and the plan's evaluation prices what is left
+// (passGapCents stays ≥ 0 on every leg): the search never charges more than the bill
+// (TestSearchCrewNoMoreThanTheBill).
 
 // turnShare is the crew share, in halves, of the turn edge between nodes u and v.
 func (l *layout) turnShare(u, v int) int {

@@ -283,6 +283,22 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 	}
 	leg.Feasible = true
 	leg.Cable.Fit(cm.eng.Catalog(), ch, facts.InsideAM, facts.InsideBM, cm.design.WastePct)
+	if joins := leg.Cable.Joins; ch.Inside != "" {
+		// With an entrance transition the reels are the outside cable's (cutOutside): fewer
+		// joins there are fewer splices in the loss budget, which the engine checks again; if
+		// it then chooses otherwise, the first choice stands, measured over the whole cable.
+		whole := leg.Cable
+		if leg.Cable.cutOutside(cm.design) {
+			facts.Splices -= joins - leg.Cable.Joins
+			again := cm.eng.Choose(facts)
+			if again.Feasible && again.Medium == ch.Medium && again.Construction == ch.Construction && again.Inside == ch.Inside {
+				ch = again
+				leg.Rejected, leg.Choice, leg.ReasonCode = ch.Rejected, ch.Reason, ch.Code
+			} else {
+				leg.Cable = whole
+			}
+		}
+	}
 	leg.Medium, leg.Application, leg.Construction, leg.Inside = ch.Medium, ch.Application, ch.Construction, ch.Inside
 	leg.Losses = ch.Losses
 	if q, ok := ch.AttenuatorQuantity(); ok {

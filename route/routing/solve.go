@@ -407,7 +407,7 @@ func (m *Model) passGapCents(s *site.Site, lay *layout, prob *optimize.Problem, 
 			x, extra := lay.isExtra(len(s.Net.Spans), h.Edge)
 			switch {
 			case !extra:
-				n := 0.5 * items.JoinEnds(s, &s.Net.Spans[h.Edge])
+				n := 0.5 * lay.joinEnds(s, h.Edge)
 				loops, crews = loops+n, crews+n
 			case x.kind == edgeTurn:
 				crews += float64(lay.turnShare(x.from, x.to)) / 2

@@ -34,7 +34,8 @@ type CableTakeoff struct {
 	Joins    int     // mid-span splices between reels; each strand's path crosses every one
 	// Splices are where the Joins go, in travel order from the served building (placeJoins);
 	// ReelsM the length cut from each reel, in metres (whole metres, with waste), which sum to
-	// LengthM. One reel without joins.
+	// LengthM, or with an entrance transition to OutsideLengthM: the joins are then placed and
+	// the reels cut over the outside-plant cable only (cutOutside). One reel without joins.
 	Splices []SplicePoint
 	ReelsM  []float64
 
@@ -60,6 +61,13 @@ type CableTakeoff struct {
 	InsideRunM   float64
 	InsideSize   media.Size
 	InsideCables int
+
+	// What placing the joins again over the outside cable needs (cutOutside): the structures
+	// and spans along the channel, the served building, and the channel metres the inside
+	// pieces take at each end before waste.
+	spans                      []spanOnChannel
+	served                     string
+	insideToChM, insideFromChM float64
 }
 
 // OutsideLengthM is the length bought of the leg's own construction: all of LengthM, or
@@ -111,6 +119,7 @@ func takeoff(s *site.Site, d plan.Design, leg *Leg, built builtOn) CableTakeoff 
 	if leg.Link != nil {
 		served = leg.Link.To
 	}
+	t.spans, t.served = spans, served
 	t.Splices, t.ReelsM = placeJoins(d, passes, spans, t.ChannelM, t.LengthM, served)
 	t.Joins, t.Reels = len(t.Splices), len(t.ReelsM)
 	if t.Joins > 0 {
@@ -393,9 +402,56 @@ func (t *CableTakeoff) Fit(cat *media.Catalog, ch media.Choice, insideToM, insid
 		} else if sum > ch.InsideM {
 			to, from = to*ch.InsideM/sum, from*ch.InsideM/sum
 		}
+		t.insideToChM, t.insideFromChM = to, from
 		piece := func(m float64) float64 { return math.Ceil(m*(1+wastePct/100) - 1e-9) }
 		t.InsideToM = math.Min(t.LengthM, piece(to))
 		t.InsideFromM = math.Min(t.LengthM-t.InsideToM, piece(from))
 		t.InsideLengthM = t.InsideToM + t.InsideFromM
 	}
+}
+
+// cutOutside places the joins and cuts the reels of a leg with an entrance transition over its
+// outside-plant cable only, after Fit: that cable runs between the two transition splices, and
+// the inside pieces at each end are other cable from other reels, so a reel starts at the
+// served building's transition (insideToChM along the channel) and the last ends at the
+// cross-connect's. Splices keep their places along the whole channel; ReelsM is then the
+// outside cable's reels (summing to OutsideLengthM), and LengthM the outside reels plus the
+// inside pieces. It returns whether the joins changed. Without a transition it does nothing.
+func (t *CableTakeoff) cutOutside(d plan.Design) bool {
+	if t.InsideLengthM == 0 {
+		return false
+	}
+	if t.Joins == 0 { // no joins over the whole cable, none over a part: one reel, the outside cut
+		t.ReelsM = []float64{t.LengthM - t.InsideLengthM}
+		return false
+	}
+	startM, outM := t.insideToChM, t.ChannelM-t.insideToChM-t.insideFromChM
+	if outM <= 0 {
+		return false
+	}
+	var passes []SplicePoint
+	for _, p := range t.Passed {
+		if p.ChannelM > startM && p.ChannelM < startM+outM {
+			p.ChannelM -= startM
+			passes = append(passes, p)
+		}
+	}
+	spans := make([]spanOnChannel, len(t.spans))
+	for i, sc := range t.spans {
+		sc.startM -= startM
+		spans[i] = sc
+	}
+	lengthM, _ := reels(d, outM)
+	splices, reelsM := placeJoins(d, passes, spans, outM, lengthM, t.served)
+	for i := range splices {
+		splices[i].ChannelM += startM
+	}
+	changed := len(splices) != t.Joins
+	t.Splices, t.ReelsM = splices, reelsM
+	t.Joins, t.Reels = len(splices), len(reelsM)
+	t.LengthM = t.InsideLengthM
+	for _, m := range reelsM {
+		t.LengthM += m
+	}
+	return changed
 }

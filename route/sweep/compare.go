@@ -30,22 +30,42 @@ type judged struct {
 	pareto bool // not dominated; only ok scenarios are judged
 }
 
-// judge ranks the complete ok rows by total cost (equal costs share a rank, the next rank
-// skips: 1, 2, 2, 4) and flags those no other complete ok row dominates on (total cost lower
-// is better, worst loss margin higher is better, links missing a diverse route fewer is
-// better). A scenario without fibre legs has no loss margin to lose and counts as the best
-// margin. Infeasible and failed scenarios get neither a rank nor a flag: their costs leave out
-// the links they could not serve; nor do incomplete ones (Row.Incomplete), whose totals leave
-// out what their books do not price (ParetoText says so).
+// judge ranks the ok rows by total cost (equal costs share a rank, the next rank skips: 1, 2,
+// 2, 4) and flags those no other row of the same kind dominates on (total cost lower is
+// better, worst loss margin higher is better, links missing a diverse route fewer is better),
+// among the rows whose totals leave out the same items (Row.NotPriced): the complete ones
+// together, and each set of incomplete ones whose books leave out the same items together
+// (Exclusion), never an incomplete total against a complete one. A scenario without fibre legs
+// has no loss margin to lose and counts as the best margin. Infeasible and failed scenarios
+// get neither a rank nor a flag: their costs leave out the links they could not serve.
 func judge(rows []Row) []judged {
 	out := make([]judged, len(rows))
-	var ok []int
+	groups := map[string][]int{}
+	var keys []string
 	for i := range rows {
 		out[i].Row = &rows[i]
-		if rows[i].Status == StatusOK && !rows[i].Incomplete() {
-			ok = append(ok, i)
+		if rows[i].Status == StatusOK {
+			k := rows[i].Exclusion()
+			if _, seen := groups[k]; !seen {
+				keys = append(keys, k)
+			}
+			groups[k] = append(groups[k], i)
 		}
 	}
+	for _, k := range keys {
+		judgeGroup(rows, out, groups[k])
+	}
+	return out
+}
+
+// Exclusion is what a row's total leaves out, its NotPriced keys sorted and joined by ", ";
+// "" for a complete total.
+func (r *Row) Exclusion() string {
+	return strings.Join(slices.Sorted(slices.Values(r.NotPriced)), ", ")
+}
+
+// judgeGroup ranks and flags the rows ok of one exclusion (judge).
+func judgeGroup(rows []Row, out []judged, ok []int) {
 	byCost := append([]int(nil), ok...)
 	sort.SliceStable(byCost, func(a, b int) bool { return rows[byCost[a]].TotalCents < rows[byCost[b]].TotalCents })
 	for k, i := range byCost {
@@ -107,22 +127,37 @@ func judge(rows []Row) []judged {
 		}
 		g = h
 	}
-	return out
 }
 
-// ParetoText is a row's pareto cell: "yes" or "no" for a ranked scenario, "no (incomplete)"
-// for an ok one whose total leaves out items its book does not price (Row.Incomplete), ""
-// for an infeasible or failed one. compare.csv, compare.md and the sweep report all use it.
+// ParetoText is a row's pareto cell: "yes" or "no" for an ok scenario, judged among the
+// complete ones, or for an incomplete one (Row.Incomplete) among those whose totals leave out
+// the same items, "yes (without …)" or "no (without …)" naming them; "" for an infeasible or
+// failed one. compare.csv, compare.md and the sweep report all use it.
 func ParetoText(r *Row, pareto bool) string {
+	text := "no"
+	if pareto {
+		text = "yes"
+	}
 	switch {
 	case r.Status != StatusOK:
 		return ""
 	case r.Incomplete():
-		return "no (incomplete)"
-	case pareto:
-		return "yes"
+		return text + " (without " + r.Exclusion() + ")"
 	}
-	return "no"
+	return text
+}
+
+// RankText is a row's cost rank cell: the rank among the complete ok scenarios, or for an
+// incomplete one the rank among those leaving out the same items, "1 (without …)"; "" when
+// not ranked.
+func RankText(r *Row, rank int) string {
+	switch {
+	case rank == 0:
+		return ""
+	case r.Incomplete():
+		return strconv.Itoa(rank) + " (without " + r.Exclusion() + ")"
+	}
+	return strconv.Itoa(rank)
 }
 
 func same(rows []Row, a, b int, margin func(int) float64) bool {
@@ -240,15 +275,13 @@ var fixedColumns = []column{
 	intCol("diverse_missing", "links lacking a diverse route", func(r *Row) int { return r.DiverseMissing }),
 	textCol("media_mix", "media (legs per medium)", func(j judged) string { return j.MediaMix }),
 	{"cost_rank", "rank by cost", "",
-		func(j judged) string {
-			if j.rank == 0 {
-				return ""
-			}
-			return strconv.Itoa(j.rank)
-		},
+		func(j judged) string { return RankText(j.Row, j.rank) },
 		func(j judged) workbook.Cell {
-			if j.rank == 0 {
+			switch {
+			case j.rank == 0:
 				return workbook.Blank()
+			case j.Incomplete(): // text: the totals' formulas match the complete ranks only
+				return workbook.Text(RankText(j.Row, j.rank))
 			}
 			return workbook.Int(int64(j.rank))
 		}, nil},
@@ -455,6 +488,9 @@ func compareXLSX(js []judged, keys []string, cur string, fixed []column) ([]byte
 	n := tallyOf(js)
 	maxRank, pareto := 0, 0
 	for _, j := range js {
+		if j.Incomplete() {
+			continue // ranked among their own kind, in text cells the formulas pass over
+		}
 		if j.Status == StatusOK && j.pareto {
 			pareto++
 		}
@@ -464,7 +500,7 @@ func compareXLSX(js []judged, keys []string, cur string, fixed []column) ([]byte
 	// that rank, "" (IFERROR) when no row has it.
 	costAtRank := func(expr string, rank int) workbook.Cell {
 		for _, j := range js {
-			if rank > 0 && j.rank == rank {
+			if rank > 0 && j.rank == rank && !j.Incomplete() {
 				return workbook.Formula(expr, float64(j.TotalCents)/100, 2)
 			}
 		}
@@ -557,8 +593,18 @@ func tallyOf(js []judged) tally {
 func compareMD(js []judged, keys []string, cur string, fixed []column) []byte {
 	var b bytes.Buffer
 	var front []string
+	without := map[string][]string{} // exclusion → its Pareto optimal scenarios
+	var exclusions []string
 	for _, j := range js {
-		if j.pareto {
+		switch {
+		case !j.pareto:
+		case j.Incomplete():
+			k := j.Exclusion()
+			if _, seen := without[k]; !seen {
+				exclusions = append(exclusions, k)
+			}
+			without[k] = append(without[k], escape.MarkdownCode(j.ID))
+		default:
 			front = append(front, escape.MarkdownCode(j.ID))
 		}
 	}
@@ -568,18 +614,22 @@ func compareMD(js []judged, keys []string, cur string, fixed []column) []byte {
 	if cur != "" {
 		fmt.Fprintf(&b, " Money in %s.", escape.Markdown(cur))
 	}
-	fmt.Fprintf(&b, "\nRank and Pareto flag consider only ok scenarios (every leg feasible) whose totals price every\n")
-	fmt.Fprintf(&b, "line; Pareto over total cost, worst loss margin (higher is better) and links lacking a diverse route.\n")
+	fmt.Fprintf(&b, "\nRank and Pareto flag consider only ok scenarios (every leg feasible), those whose totals price every\n")
+	fmt.Fprintf(&b, "line together; Pareto over total cost, worst loss margin (higher is better) and links lacking a diverse route.\n")
 	if n.incomplete > 0 {
 		why := "its total leaves out items its price book does not price"
 		if n.incomplete > 1 {
 			why = "their totals leave out items their price books do not price"
 		}
-		fmt.Fprintf(&b, "%s not ranked: %s (pareto \"no (incomplete)\"; see the notes).\n", output.Counted(n.incomplete, "ok scenario", "ok scenarios"), why)
+		fmt.Fprintf(&b, "%s ranked apart: %s; each is ranked among those leaving out the same items, never against a complete total (rank and pareto say \"(without …)\"; see the notes).\n",
+			output.Counted(n.incomplete, "ok scenario", "ok scenarios"), why)
 	}
 	b.WriteString("\n")
 	if len(front) > 0 {
 		fmt.Fprintf(&b, "Pareto optimal: %s.\n\n", strings.Join(front, ", "))
+	}
+	for _, k := range exclusions {
+		fmt.Fprintf(&b, "Pareto optimal among scenarios without %s: %s.\n\n", escape.Markdown(k), strings.Join(without[k], ", "))
 	}
 	head := []string{"#", "id", "case"}
 	for _, k := range keys {

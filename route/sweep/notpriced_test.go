@@ -30,12 +30,14 @@ func TestRowNotesNotPriced(t *testing.T) {
 	}
 }
 
-// TestJudgeLeavesIncompleteUnranked: an ok scenario whose book leaves items unpriced (tester
-// 6's finding 5: prices-x 589,335.65 ranked first and Pareto-optimal against a complete
-// 614,817.94) is neither ranked nor Pareto-judged against complete ones; the complete ones
-// rank among themselves as if it were not there, and every comparison file says why (common
-// practice, no published source: bids are compared on the same scope, exclusions apart).
-func TestJudgeLeavesIncompleteUnranked(t *testing.T) {
+// TestJudgeRanksIncompleteApart: an ok scenario whose book leaves items unpriced (tester 6's
+// finding 5: prices-x 589,335.65 ranked first and Pareto-optimal against a complete
+// 614,817.94) is never ranked or Pareto-judged against complete ones; it is ranked among the
+// scenarios leaving out the same items (review 4 F4: a sweep whose every book leaves out an
+// optional item ranked nothing), the complete ones among themselves as if it were not there,
+// and every comparison file says so (common practice, no published source: bids are compared
+// on the same scope, exclusions apart).
+func TestJudgeRanksIncompleteApart(t *testing.T) {
 	t.Parallel()
 	rows := []Row{
 		{Index: 0, ID: "complete-dear", Status: StatusOK, TotalCents: 61481794, WorstMarginDB: fp(1)},
@@ -45,12 +47,14 @@ func TestJudgeLeavesIncompleteUnranked(t *testing.T) {
 		{Index: 3, ID: "infeasible", Status: StatusInfeasible, TotalCents: 100, NotPriced: []string{"patch_cords_each"}},
 	}
 	js := judge(rows)
-	wantRank := []int{1, 0, 2, 0}
-	wantPareto := []bool{true, false, false, false}
-	wantText := []string{"yes", "no (incomplete)", "no", ""}
+	wantRank := []int{1, 1, 2, 0}
+	wantPareto := []bool{true, true, false, false}
+	wantText := []string{"yes", "yes (without patch_cords_each)", "no", ""}
+	wantRankText := []string{"1", "1 (without patch_cords_each)", "2", ""}
 	for i, j := range js {
-		if j.rank != wantRank[i] || j.pareto != wantPareto[i] || ParetoText(j.Row, j.pareto) != wantText[i] {
-			t.Errorf("%s: rank %d pareto %v %q, want %d %v %q", j.ID, j.rank, j.pareto, ParetoText(j.Row, j.pareto), wantRank[i], wantPareto[i], wantText[i])
+		if j.rank != wantRank[i] || j.pareto != wantPareto[i] || ParetoText(j.Row, j.pareto) != wantText[i] || RankText(j.Row, j.rank) != wantRankText[i] {
+			t.Errorf("%s: rank %d %q pareto %v %q, want %d %q %v %q", j.ID, j.rank, RankText(j.Row, j.rank), j.pareto, ParetoText(j.Row, j.pareto),
+				wantRank[i], wantRankText[i], wantPareto[i], wantText[i])
 		}
 	}
 	files, err := Compare(rows, nil, "")
@@ -61,11 +65,13 @@ func TestJudgeLeavesIncompleteUnranked(t *testing.T) {
 		text := string(f.Data)
 		switch f.Name {
 		case CompareCSV:
-			if !strings.Contains(text, ",no (incomplete),") {
-				t.Errorf("compare.csv does not mark the incomplete scenario:\n%s", text)
+			if !strings.Contains(text, ",1 (without patch_cords_each),yes (without patch_cords_each),") {
+				t.Errorf("compare.csv does not mark the incomplete scenario's rank and flag:\n%s", text)
 			}
 		case CompareMD:
-			for _, want := range []string{"1 ok scenario not ranked: its total leaves out items its price book does not price", "`incomplete-cheap`: not priced, left out of the total: patch\\_cords\\_each"} {
+			for _, want := range []string{"1 ok scenario ranked apart: its total leaves out items its price book does not price",
+				"Pareto optimal: `complete-dear`.", "Pareto optimal among scenarios without patch\\_cords\\_each: `incomplete-cheap`.",
+				"`incomplete-cheap`: not priced, left out of the total: patch\\_cords\\_each"} {
 				if !strings.Contains(text, want) {
 					t.Errorf("compare.md lacks %q:\n%s", want, text)
 				}
@@ -73,8 +79,33 @@ func TestJudgeLeavesIncompleteUnranked(t *testing.T) {
 		}
 	}
 	c := Judge(rows, nil)
-	if c.Rows[1].Rank != 0 || c.Rows[1].Pareto || c.Rows[0].Rank != 1 {
-		t.Errorf("Judge: incomplete rank %d pareto %v, complete rank %d", c.Rows[1].Rank, c.Rows[1].Pareto, c.Rows[0].Rank)
+	if c.Rows[1].Rank != 1 || !c.Rows[1].Pareto || c.Rows[0].Rank != 1 || c.Rows[2].Rank != 2 {
+		t.Errorf("Judge: incomplete rank %d pareto %v, complete ranks %d %d", c.Rows[1].Rank, c.Rows[1].Pareto, c.Rows[0].Rank, c.Rows[2].Rank)
+	}
+}
+
+// TestJudgeSameExclusionRanked: a sweep whose every book leaves out the same optional item
+// (cords furnished with the equipment) ranks its scenarios 1 and 2 and judges them Pareto
+// among themselves; one leaving out another item is ranked apart again (review 4 F4).
+func TestJudgeSameExclusionRanked(t *testing.T) {
+	t.Parallel()
+	cords := []string{"patch_cords_each"}
+	rows := []Row{
+		{Index: 0, ID: "hub-adm", Status: StatusOK, TotalCents: 29200725, WorstMarginDB: fp(2), NotPriced: cords},
+		{Index: 1, ID: "hub-lib", Status: StatusOK, TotalCents: 29056277, WorstMarginDB: fp(1), NotPriced: cords},
+		{Index: 2, ID: "hub-lib-2", Status: StatusOK, TotalCents: 29100000, WorstMarginDB: fp(0.5), NotPriced: cords},
+		{Index: 3, ID: "other", Status: StatusOK, TotalCents: 1, WorstMarginDB: fp(9), NotPriced: []string{"splice_point_each", "patch_cords_each"}},
+	}
+	js := judge(rows)
+	wantRank := []int{3, 1, 2, 1}
+	wantPareto := []bool{true, true, false, true}
+	for i, j := range js {
+		if j.rank != wantRank[i] || j.pareto != wantPareto[i] {
+			t.Errorf("%s: rank %d pareto %v, want %d %v", j.ID, j.rank, j.pareto, wantRank[i], wantPareto[i])
+		}
+	}
+	if got := RankText(&rows[3], 1); got != "1 (without patch_cords_each, splice_point_each)" {
+		t.Errorf("rank cell %q", got)
 	}
 }
 

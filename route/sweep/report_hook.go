@@ -13,11 +13,13 @@ import (
 type Judged struct {
 	Row
 	// Rank is 1 for the cheapest ok scenario; equal costs share a rank and the next rank
-	// skips (1, 2, 2, 4); 0 for an infeasible or failed scenario, and for an incomplete one
-	// (Row.Incomplete: its total leaves out items its book does not price).
+	// skips (1, 2, 2, 4); 0 for an infeasible or failed scenario. An incomplete one
+	// (Row.Incomplete: its total leaves out items its book does not price) is ranked among
+	// those leaving out the same items (Row.Exclusion), apart from the complete ones.
 	Rank int
-	// Pareto is set on a complete ok scenario that no other one dominates on total cost
-	// (lower is better), worst loss margin (higher) and links missing a diverse route (fewer).
+	// Pareto is set on an ok scenario that no other one of the same exclusion dominates on
+	// total cost (lower is better), worst loss margin (higher) and links missing a diverse
+	// route (fewer).
 	Pareto bool
 	// Dir is the scenario's folder relative to the comparison's folder, with slashes and
 	// each part escaped for a URL: the id for a sweep's own comparison, and for a merge into

@@ -116,7 +116,7 @@ type Report struct {
 	Failed     int
 	Failures   []Row    // the failed scenarios' rows, in index order
 	DemoPrices int      // scenarios priced by the invented demo price book
-	Incomplete int      // of OK, those not ranked: their totals leave out items not priced (Row.Incomplete)
+	Incomplete int      // of OK, those ranked apart: their totals leave out items not priced (Row.Incomplete), ranked among the same exclusion
 	Files      []string // files written besides the scenario folders, sorted
 	// Notes say what the run did that the user may not expect: a kept base scenario planned
 	// again because its folder was not as the sweep wrote it, folders in the output folder
