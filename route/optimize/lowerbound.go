@@ -430,7 +430,7 @@ func (sv *solver) optionLevels(db *dualBound, ds *dualSearch) *dualBound {
 			}
 			s, t := int32(sv.from[d]), int32(sv.to[d])
 			for o := range lv {
-				lv[o] = sv.optionRun(db, ds, sv.profCent[sv.optProf[d][o]], s, t)
+				lv[o] = sv.dualRunOn(db, ds, sv.profCent[sv.optProf[d][o]], s, t)
 			}
 			for _, e := range ds.wl {
 				ds.w[e], ds.wOn[e] = 0, false
@@ -706,52 +706,16 @@ func (ds *dualSearch) pathTo(n *Network, v int32, buf []int32) []int32 {
 	return buf
 }
 
-// optionRun is dualRun over the costs of one option's profile (cents: profCent's row)
-// instead of legCost, from root until it pops goal: goal's distance, or -1.
-func (sv *solver) optionRun(db *dualBound, ds *dualSearch, cents []int64, root, goal int32) int64 {
-	n := sv.net
-	for _, v := range ds.touched {
-		ds.dist[v] = -1
-	}
-	ds.popped, ds.touched = ds.popped[:0], append(ds.touched[:0], root)
-	ds.h.reset()
-	ds.dist[root], ds.pred[root] = 0, -1
-	ds.h.push(0, root)
-	for ds.h.len() > 0 {
-		k, v := ds.h.pop()
-		if k > ds.dist[v] {
-			continue
-		}
-		if v == goal {
-			return k
-		}
-		db.work++
-		if !n.transit(v, int(root)) {
-			continue
-		}
-		for _, a := range n.adj[n.start[v]:n.start[v+1]] {
-			db.work++
-			c := cents[a.edge]
-			if c < 0 {
-				continue
-			}
-			nk := min(k+c+ds.w[a.edge], dualInf)
-			if dv := ds.dist[a.to]; dv < 0 || nk < dv {
-				if dv < 0 {
-					ds.touched = append(ds.touched, a.to)
-				}
-				ds.dist[a.to], ds.pred[a.to] = nk, a.edge
-				ds.h.push(nk, a.to)
-			}
-		}
-	}
-	return -1
-}
-
 // dualRun runs Dijkstra from root over demand d's edges weighted c_e^d + w_e^d (ds.w),
 // passing no transit-free node but the root, until it pops goal; it returns goal's distance,
 // or -1 when goal cannot be reached.
 func (sv *solver) dualRun(db *dualBound, ds *dualSearch, d int, root, goal int32) int64 {
+	return sv.dualRunOn(db, ds, sv.legMin[sv.legSet[d]], root, goal)
+}
+
+// dualRunOn is dualRun over the edge costs cents (c_e^d: legCost's row of the demand, or one
+// option's profile, profCent's row, for optionLevels), -1 on an edge they may not use.
+func (sv *solver) dualRunOn(db *dualBound, ds *dualSearch, cents []int64, root, goal int32) int64 {
 	n := sv.net
 	for _, v := range ds.touched {
 		ds.dist[v] = -1
@@ -775,7 +739,7 @@ func (sv *solver) dualRun(db *dualBound, ds *dualSearch, d int, root, goal int32
 		}
 		for _, a := range n.adj[n.start[v]:n.start[v+1]] {
 			db.work++
-			c := sv.legCost(d, a.edge)
+			c := cents[a.edge]
 			if c < 0 {
 				continue
 			}
