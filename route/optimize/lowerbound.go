@@ -289,7 +289,7 @@ func (sv *solver) ascendFrom(free []int64) *dualBound {
 				continue
 			}
 			if db.work > work {
-				return sv.optionLevels(db, ds).finish(nd)
+				return sv.optionLevels(db, ds, work+work/optionWorkShare).finish(nd)
 			}
 			for _, u := range db.uses[d] {
 				ds.add(u.edge, u.cents)
@@ -401,8 +401,11 @@ func (sv *solver) ascendFrom(free []int64) *dualBound {
 		}
 		db.passes = pass
 	}
-	return sv.optionLevels(db, ds).finish(nd)
+	return sv.optionLevels(db, ds, work+work/optionWorkShare).finish(nd)
 }
+
+// optionWorkShare: optionLevels' searches may add work/optionWorkShare to the ascent's cap.
+const optionWorkShare = 4
 
 // optionLevels sets db.optLevel: for each demand of several options with a level, each
 // option's cheapest leg under its own costs (cable and labour of that option, not the
@@ -413,9 +416,16 @@ func (sv *solver) ascendFrom(free []int64) *dualBound {
 // bound for a plan that takes that option, and the plan's bound takes the cheapest option
 // whole (planBound), not the cheapest fixed part beside the cheapest costs per metre of
 // another option. A demand that holds no prices takes its options' free levels (read before
-// the ascent, freeLevels). Each option's level is at least the demand's level, as its costs
-// are at least legCost's.
-func (sv *solver) optionLevels(db *dualBound, ds *dualSearch) *dualBound {
+// the ascent, freeLevels), and so does every demand once the searches have done limit work
+// (the ascent's cap and a share more): each option's free level, or the demand's level where
+// that is more, both at most the option's cheapest leg under the demand's prices, which is
+// what a search would find. Each option's level is at least the demand's level, as its costs
+// are at least legCost's. In demand order, the work counted, so the same whatever the timing.
+// With the searches, on the demo and the generated 40-, 200- and 1,000-building campuses the
+// gap reads 6.34, 9.80, 45.91 and 58.91 %; with free levels alone 9.25, 14.29, 54.36 and
+// 58.91 % (the 1,000-building ascent spends its cap: no searches; uncapped they cost 0.26 s
+// of CPU there for 0.6 points).
+func (sv *solver) optionLevels(db *dualBound, ds *dualSearch, limit int64) *dualBound {
 	nd := len(sv.p.Demands)
 	db.optLevel = make([][]int64, nd)
 	for d := range nd {
@@ -424,7 +434,7 @@ func (sv *solver) optionLevels(db *dualBound, ds *dualSearch) *dualBound {
 			continue
 		}
 		lv := slices.Clone(opts)
-		if len(db.uses[d]) > 0 {
+		if len(db.uses[d]) > 0 && db.work <= limit {
 			for _, u := range db.uses[d] {
 				ds.add(u.edge, u.cents)
 			}
@@ -439,7 +449,7 @@ func (sv *solver) optionLevels(db *dualBound, ds *dualSearch) *dualBound {
 		}
 		for o := range lv {
 			if lv[o] >= 0 {
-				lv[o] = max(lv[o], db.level[d]) // the same, but for the rounding of dualInf
+				lv[o] = max(lv[o], db.level[d])
 			}
 		}
 		db.optLevel[d] = lv
