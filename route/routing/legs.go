@@ -275,6 +275,17 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 	leg.Cable = takeoff(s, cm.design, leg, built)
 	facts.SlackM, facts.Splices = leg.Cable.SlackM(), facts.Splices+leg.Cable.Joins
 	ch := cm.eng.Choose(facts)
+	if !ch.Feasible {
+		// Joins in structures may take one more than the cable's length does; at the reels'
+		// ends (splice points to build) the loss budget may close.
+		if alt, fewer := leg.Cable.joinsAtReelEnds(cm.design); fewer {
+			f := facts
+			f.Splices -= leg.Cable.Joins - alt.Joins
+			if again := cm.eng.Choose(f); again.Feasible {
+				leg.Cable, facts, ch = alt, f, again
+			}
+		}
+	}
 	leg.Rejected = ch.Rejected
 	leg.Choice, leg.ReasonCode = ch.Reason, ch.Code
 	if !ch.Feasible {

@@ -41,3 +41,35 @@ func TestPlaceJoins(t *testing.T) {
 		t.Errorf("one reel's channel: %v, %v", s, r)
 	}
 }
+
+// TestJoinsAtReelEnds: where the joins placed in structures (TestPlaceJoins: HH-2, J7 and a
+// reel's end, 3 joins for 300 m of channel) take more than the cable's length does (3 reels
+// of 100 m of channel: 2 joins), the joins at the reels' ends are the splice points to build
+// the length alone asks for, at 100 and 200 m, and the reels 105 m each; a takeoff whose
+// joins are already as few is left alone. Common practice, no published source (a splice
+// point built where a reel runs out rather than a link lost to the loss of one more splice).
+func TestJoinsAtReelEnds(t *testing.T) {
+	d := plan.Design{ReelM: 105, WastePct: 5, SlackLoopStructureM: 3}
+	passes := []SplicePoint{{ID: "MH-1", ChannelM: 30}, {ID: "HH-2", ChannelM: 90}, {ID: "J7", Added: true, ChannelM: 150}, {ID: "MH-3", ChannelM: 260}}
+	sp := &geo.Span{ID: "A-1", LengthM: 200}
+	spans := []spanOnChannel{{span: sp, reverse: true, startM: 100}}
+	tk := CableTakeoff{ChannelM: 300, spans: spans, served: "B1"}
+	tk.LengthM, _ = reels(d, tk.ChannelM)
+	tk.Splices, tk.ReelsM = placeJoins(d, passes, spans, tk.ChannelM, tk.LengthM, "B1")
+	tk.Joins, tk.Reels = len(tk.Splices), len(tk.ReelsM)
+	if tk.Joins != 3 {
+		t.Fatalf("joins in structures: %d, want 3", tk.Joins)
+	}
+	alt, fewer := tk.joinsAtReelEnds(d)
+	if !fewer || alt.Joins != 2 || alt.Reels != 3 || !slices.Equal(alt.ReelsM, []float64{105, 105, 105}) || alt.LengthM != 315 {
+		t.Fatalf("at the reels' ends: fewer %v, %d joins, reels %v, bought %.0f m; want 2 joins, 3 reels of 105 m, 315 m", fewer, alt.Joins, alt.ReelsM, alt.LengthM)
+	}
+	for k, p := range alt.Splices {
+		if !p.NoStructure || !p.AtReelEnd || p.ChannelM != float64(100*(k+1)) {
+			t.Errorf("join %d: %+v, want a splice point to build at %d m", k+1, p, 100*(k+1))
+		}
+	}
+	if _, fewer := alt.joinsAtReelEnds(d); fewer {
+		t.Error("joins at the reels' ends again: want no change")
+	}
+}

@@ -131,6 +131,33 @@ func takeoff(s *site.Site, d plan.Design, leg *Leg, built builtOn) CableTakeoff 
 	return t
 }
 
+// joinsAtReelEnds is t with its mid-span splices at its reels' ends (splice points to build,
+// AtReelEnd) instead of in the last structure before each reel runs out, and true, when that
+// takes fewer joins: the count by length alone that the optimizer's reach assumes (reels,
+// Model.reachM). A designer builds a splice point rather than lose a link to the join that
+// placing every splice in a structure adds; fillLeg asks for it only when the loss budget
+// fails with the joins in structures.
+func (t CableTakeoff) joinsAtReelEnds(d plan.Design) (CableTakeoff, bool) {
+	lengthM, _ := reels(d, t.ChannelM)
+	splices, reelsM := placeJoins(d, nil, t.spans, t.ChannelM, lengthM, t.served)
+	if len(splices) >= t.Joins {
+		return t, false
+	}
+	for i := range splices {
+		splices[i].AtReelEnd = true
+	}
+	t.Splices, t.ReelsM = splices, reelsM
+	t.Joins, t.Reels = len(splices), len(reelsM)
+	t.LengthM = lengthM
+	if t.Joins > 0 {
+		t.LengthM = 0
+		for _, m := range reelsM {
+			t.LengthM += m
+		}
+	}
+	return t, true
+}
+
 // SplicePoint is a place along a leg: a structure by its ID (a junction's, for a handhole the
 // plan adds there: Added), or a handhole the plan adds along new construction on Span, AtM
 // metres from its from end. NoStructure marks a mid-span splice that no structure within
@@ -143,6 +170,10 @@ type SplicePoint struct {
 	AtM         float64
 	Added       bool
 	NoStructure bool
+	// AtReelEnd marks a NoStructure splice placed at its reel's end although a structure
+	// before it could take it (joinsAtReelEnds): there the leg would need a join more than its
+	// length does, and the loss budget would not close.
+	AtReelEnd bool
 	// ChannelM is where it is along the channel, in metres from the served building's end of
 	// the cable (its riser, coil and entrance loop first).
 	ChannelM float64
