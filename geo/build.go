@@ -768,16 +768,7 @@ func (b *builder) wallDoors(f *footprint) []int {
 		sr := b.segs[s]
 		p := &b.parts[sr.part]
 		a, c := p.xy[sr.i], p.xy[sr.i+1]
-		var ts []float64
-		for _, poly := range f.rings {
-			for _, ring := range poly {
-				for k := 1; k < len(ring); k++ {
-					if t, _, ok := segIntersect(a, c, ring[k-1], ring[k]); ok {
-						ts = append(ts, t)
-					}
-				}
-			}
-		}
+		ts := f.crossings(a, c, nil)
 		slices.Sort(ts)
 		for _, t := range slices.Compact(ts) {
 			if m := b.target(int(s), t); !slices.Contains(out, m) {

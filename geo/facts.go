@@ -695,13 +695,9 @@ func (f *footprint) insideLen(a, c vec) float64 {
 	return sum
 }
 
-// insideParts calls each, in order along segment ac, with the fractions t0 < t1 of every
-// stretch of it inside footprint f (between two crossings of its rings); ts is scratch.
-func (f *footprint) insideParts(a, c vec, ts []float64, each func(t0, t1 float64)) {
-	if math.Max(a.x, c.x) < f.lo.x || math.Min(a.x, c.x) > f.hi.x || math.Max(a.y, c.y) < f.lo.y || math.Min(a.y, c.y) > f.hi.y {
-		return
-	}
-	ts = append(ts[:0], 0, 1)
+// crossings appends to ts the fractions along segment ac where it crosses the rings of
+// footprint f (holes included), in ring order.
+func (f *footprint) crossings(a, c vec, ts []float64) []float64 {
 	for _, poly := range f.rings {
 		for _, ring := range poly {
 			for i := 1; i < len(ring); i++ {
@@ -711,6 +707,16 @@ func (f *footprint) insideParts(a, c vec, ts []float64, each func(t0, t1 float64
 			}
 		}
 	}
+	return ts
+}
+
+// insideParts calls each, in order along segment ac, with the fractions t0 < t1 of every
+// stretch of it inside footprint f (between two crossings of its rings); ts is scratch.
+func (f *footprint) insideParts(a, c vec, ts []float64, each func(t0, t1 float64)) {
+	if math.Max(a.x, c.x) < f.lo.x || math.Min(a.x, c.x) > f.hi.x || math.Max(a.y, c.y) < f.lo.y || math.Min(a.y, c.y) > f.hi.y {
+		return
+	}
+	ts = f.crossings(a, c, append(ts[:0], 0, 1))
 	sort.Float64s(ts)
 	for i := 1; i < len(ts); i++ {
 		if ts[i] > ts[i-1] && f.contains(lerp(a, c, (ts[i-1]+ts[i])/2)) {

@@ -345,28 +345,35 @@ func (sv *solver) settle() {
 	if sv.pendD < 0 {
 		return
 	}
-	st, d := sv.st, int32(sv.pendD)
+	d := int32(sv.pendD)
 	for _, e := range sv.pendE {
 		if sv.pendMark[e] != sv.pendSt {
 			continue // d's again (add)
 		}
-		i, found := slices.BinarySearch(st.users[e], d)
-		if !found {
-			panic("optimize: demand missing from an edge's users")
-		}
-		st.users[e] = slices.Delete(st.users[e], i, i+1)
-		if sv.limited[e] {
-			st.ods[e] = slices.Delete(st.ods[e], i, i+1)
-			if sv.multi {
-				st.cnt[e] = slices.Delete(st.cnt[e], i, i+1)
-			}
-		}
+		sv.dropUser(int(e), d)
 	}
 	sv.pendE, sv.pendD = sv.pendE[:0], -1
 	sv.pendSt++
 	if sv.pendSt == 0 {
 		clear(sv.pendMark)
 		sv.pendSt = 1
+	}
+}
+
+// dropUser deletes demand d's entry from edge e's users (and, on a capacity-limited edge,
+// its cable and count there): settle's pending deletions and remove's second pass over e.
+func (sv *solver) dropUser(e int, d int32) {
+	st := sv.st
+	i, found := slices.BinarySearch(st.users[e], d)
+	if !found {
+		panic("optimize: demand missing from an edge's users")
+	}
+	st.users[e] = slices.Delete(st.users[e], i, i+1)
+	if sv.limited[e] {
+		st.ods[e] = slices.Delete(st.ods[e], i, i+1)
+		if sv.multi {
+			st.cnt[e] = slices.Delete(st.cnt[e], i, i+1)
+		}
 	}
 }
 
@@ -403,18 +410,7 @@ func (sv *solver) remove(d int) choice {
 					sv.pendMark[e] = sv.pendSt
 					sv.pendE = append(sv.pendE, int32(e))
 				} else {
-					// The route passes e again: this entry goes now.
-					i, found := slices.BinarySearch(st.users[e], int32(d))
-					if !found {
-						panic("optimize: demand missing from an edge's users")
-					}
-					st.users[e] = slices.Delete(st.users[e], i, i+1)
-					if sv.limited[e] {
-						st.ods[e] = slices.Delete(st.ods[e], i, i+1)
-						if sv.multi {
-							st.cnt[e] = slices.Delete(st.cnt[e], i, i+1)
-						}
-					}
+					sv.dropUser(e, int32(d)) // the route passes e again: this entry goes now
 				}
 				if sv.limited[e] {
 					st.appendN[e] = -1

@@ -314,9 +314,7 @@ func planLayers(ctx context.Context, r *route.Result, sts func() (structureList,
 	}
 
 	// Handholes the plan adds: where routes join or turn, then the pulling plan's.
-	hs := slices.Clone(r.Handholes)
-	slices.SortStableFunc(hs, func(a, b routing.Handhole) int { return strings.Compare(a.Junction, b.Junction) })
-	for _, h := range hs {
+	for _, h := range handholesByJunction(r.Handholes) {
 		j, ok := net.Junction(h.Junction)
 		if !ok {
 			return nil, fmt.Errorf("handhole at %s: not a junction of the network", h.Junction)

@@ -156,9 +156,7 @@ func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 		}
 		out = append(out, s)
 	}
-	hs := slices.Clone(r.Handholes)
-	slices.SortStableFunc(hs, func(a, b routing.Handhole) int { return strings.Compare(a.Junction, b.Junction) })
-	for _, h := range hs {
+	for _, h := range handholesByJunction(r.Handholes) {
 		j, ok := net.Junction(h.Junction)
 		if !ok {
 			return nil, fmt.Errorf("handhole at %s: not a junction of the network", h.Junction)
@@ -265,4 +263,12 @@ func splicePointsOnSpans(r *route.Result) []splicePoint {
 		out = append(out, splicePoint{SplicePointToBuild: sp, point: span.PointAt(sp.At.AtM), typ: typ})
 	}
 	return out
+}
+
+// handholesByJunction is a copy of the handholes the plan adds at junctions in junction order,
+// the order of the structures table and plan.gpkg's added_structures.
+func handholesByJunction(hs []routing.Handhole) []routing.Handhole {
+	hs = slices.Clone(hs)
+	slices.SortStableFunc(hs, func(a, b routing.Handhole) int { return strings.Compare(a.Junction, b.Junction) })
+	return hs
 }
