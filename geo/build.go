@@ -1315,10 +1315,8 @@ func canonical(pc piece) (pts orb.LineString, from, to int) {
 	if !endFirst(z, a) {
 		return pc.pts, pc.from, pc.to
 	}
-	pts = make(orb.LineString, n)
-	for i, p := range pc.pts {
-		pts[n-1-i] = p
-	}
+	pts = slices.Clone(pc.pts)
+	slices.Reverse(pts)
 	return pts, pc.to, pc.from
 }
 

@@ -975,7 +975,6 @@ type blankUse struct {
 	n        int
 }
 
-// noteBlank counts feature f giving property key as "" (blankDefaults).
 // noteBlank counts f giving property key as "" (blankDefaults).
 func (l *loader) noteBlank(f *feature, key string) {
 	k := f.src.File + "\x00" + f.kind + "\x00" + key

@@ -1223,20 +1223,15 @@ func (e *Engine) CablePerMCents(medium string, strands int, outdoor bool) int64 
 	return c
 }
 
-// CableFor is the per-metre price in cents (all cables needed for strands strands) of the
+// CableLayingFor is the per-metre price in cents (all cables needed for strands strands) of the
 // cheapest construction of medium that carries a link with l's facts at rateGbps by every
 // rule, on some application at that rate and without an entrance transition, at a channel
 // of l's risers and slack plus one metre: what the rules let the medium run on whatever the
 // route's length (a rule on the risers, such as the 15 m limit of unlisted cable past an
 // entrance, already applies there). It falls back to CablePerMCents(medium, l.Strands,
 // l.Outdoor) when no construction passes, and panics on a medium not in the catalog.
-func (e *Engine) CableFor(medium string, rateGbps float64, l Link) int64 {
-	_, perM := e.CableLayingFor(medium, rateGbps, l)
-	return perM
-}
-
-// CableLayingFor is CableFor with the laying it prices: the construction that passes, without
-// a transition; the zero Laying when none passes and the price is CablePerMCents's.
+// It returns the laying it prices too: the construction that passes, without a transition;
+// the zero Laying when none passes and the price is CablePerMCents's.
 func (e *Engine) CableLayingFor(medium string, rateGbps float64, l Link) (Laying, int64) {
 	m := e.mustMedium(medium)
 	mi := slices.Index(e.cat.Media, m)

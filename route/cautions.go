@@ -1,11 +1,11 @@
 package route
 
 import (
-	"fmt"
 	"slices"
 	"strings"
 
 	"spanwright/geo"
+	"spanwright/geo/input"
 )
 
 // Caution is one safety caution a planned scenario calls for: what the crew must do, what in
@@ -45,11 +45,8 @@ const shownIDs = 6
 
 // idList names ids in sorted order, at most shownIDs of them and a count of the rest.
 func idList(ids []string) string {
-	ids = slices.Sorted(slices.Values(ids))
-	if len(ids) <= shownIDs {
-		return strings.Join(ids, ", ")
-	}
-	return strings.Join(ids[:shownIDs], ", ") + fmt.Sprintf(" and %d more", len(ids)-shownIDs)
+	shown, more := input.Shown(slices.Sorted(slices.Values(ids)), shownIDs)
+	return strings.Join(shown, ", ") + more
 }
 
 // pathways is "pathway A" or "pathways A, B" (idList).
@@ -58,14 +55,6 @@ func pathways(ids []string) string {
 		return "pathway " + ids[0]
 	}
 	return "pathways " + idList(ids)
-}
-
-// plural is one or many by n.
-func plural(n int, one, many string) string {
-	if n == 1 {
-		return "1 " + one
-	}
-	return fmt.Sprintf("%d %s", n, many)
 }
 
 // seenList keeps ids in the order first seen, each once.
@@ -168,7 +157,7 @@ func cautionsOf(r *Result) []Caution {
 		dig = append(dig, "directional bore"+spansText(bore.ids, laterals[1]))
 	}
 	if handholes > 0 {
-		dig = append(dig, plural(handholes, "handhole to set", "handholes to set"))
+		dig = append(dig, input.Counted(handholes, "handhole to set", "handholes to set"))
 	}
 	if len(buried.ids) > 0 {
 		dig = append(dig, "cable laid along existing direct-buried "+pathways(buried.ids))
@@ -197,13 +186,13 @@ func cautionsOf(r *Result) []Caution {
 	}
 	if len(buried.ids) > 0 {
 		add(Caution{ID: CautionBuried, Title: "Digging beside direct-buried cable",
-			Where:  plural(buriedLegs, "leg", "legs") + " laid along existing direct-buried " + pathways(buried.ids),
+			Where:  input.Counted(buriedLegs, "leg", "legs") + " laid along existing direct-buried " + pathways(buried.ids),
 			Text:   "A new cable along a direct-buried route is laid in ground opened beside the cable already there (trench or plough): locate that cable, expose it by hand where the new work comes near it, and lay only cable rated for direct burial. The bill prices the laying at the price book's buried rate; excavation along an existing direct-buried route is not priced apart.",
 			Source: "common practice, no published source"})
 	}
 	if len(aerial.ids) > 0 {
 		add(Caution{ID: CautionAerial, Title: "Pole lines",
-			Where: plural(aerialLegs, "leg", "legs") + " on aerial " + pathways(aerial.ids),
+			Where: input.Counted(aerialLegs, "leg", "legs") + " on aerial " + pathways(aerial.ids),
 			Text:  "Work on poles near overhead power conductors is for qualified workers only, keeping the minimum approach distance for the voltage; test a wood pole before climbing it, use fall protection and insulating gloves when handling strand on poles with energized power conductors, and place the cable in the communication space below the power supply space with the clearances the pole owner and the electrical safety code require. Attaching to a pole takes the owner's permit and any make-ready work.",
 			// 1910.268(n) (overhead lines, pole testing before climbing) seen in a secondary
 			// publication; the NESC clearances and 1926 Subpart V for construction from memory.
@@ -211,25 +200,25 @@ func cautionsOf(r *Result) []Caution {
 	}
 	if len(tunnel.ids) > 0 {
 		add(Caution{ID: CautionTunnel, Title: "Utility tunnels",
-			Where:  plural(tunnelLegs, "leg", "legs") + " through tunnel " + pathways(tunnel.ids),
+			Where:  input.Counted(tunnelLegs, "leg", "legs") + " through tunnel " + pathways(tunnel.ids),
 			Text:   "Steam and hot-water lines make tunnels hot (heat stress) and a leaking joint can scald: enter only with the owner's permit and escort, with ventilation, lighting and a way out both ways checked, never alone, and keep cable off steam lines. A tunnel the owner classifies as a permit-required confined space is entered as one.",
 			Source: "in the US, 29 CFR 1910.146 for permit spaces (from memory); common practice, no published source"})
 	}
 	if len(holes.ids) > 0 {
 		add(Caution{ID: CautionConfined, Title: "Confined spaces",
-			Where:  plural(len(holes.ids), "maintenance hole", "maintenance holes") + " passed: " + idList(holes.ids),
+			Where:  input.Counted(len(holes.ids), "maintenance hole", "maintenance holes") + " passed: " + idList(holes.ids),
 			Text:   "Maintenance holes and vaults are permit-required confined spaces: test the atmosphere, ventilate, and keep an attendant at the opening.",
 			Source: "in the US, 29 CFR 1910.146 and 1910.268(o) (from memory)"})
 	}
 	if fibre > 0 {
 		add(Caution{ID: CautionLaser, Title: "Laser light",
-			Where:  plural(fibre, "fibre leg", "fibre legs"),
+			Where:  input.Counted(fibre, "fibre leg", "fibre legs"),
 			Text:   "Light at 850, 1310 and 1550 nm is invisible and can injure the eye: never look into a fibre end or connector; use an inspection scope with a filter or a power meter.",
 			Source: "IEC 60825-1, -2 (from memory)"})
 	}
 	if copperOut > 0 {
 		add(Caution{ID: CautionCopper, Title: "Lightning and ground potential rise on copper between buildings",
-			Where:  plural(copperOut, "copper leg", "copper legs") + " leaving a building",
+			Where:  input.Counted(copperOut, "copper leg", "copper legs") + " leaving a building",
 			Text:   "Copper entering a building from outside needs a listed primary protector at the entrance and bonding; all-dielectric fibre between buildings avoids both.",
 			Source: "NFPA 70 Articles 800 and 805, 800.90 (seen)"})
 	}
@@ -245,7 +234,7 @@ func spansText(ids []string, laterals int) string {
 		parts = append(parts, "spans "+idList(ids))
 	}
 	if laterals > 0 {
-		parts = append(parts, plural(laterals, "counted lateral", "counted laterals"))
+		parts = append(parts, input.Counted(laterals, "counted lateral", "counted laterals"))
 	}
 	return ": " + strings.Join(parts, " and ")
 }

@@ -1083,18 +1083,6 @@ func (c *Construction) LateralPiece(building, entrance string) (WorkPiece, bool)
 	return c.Pieces[i], true
 }
 
-// ListedM is the listed metres (WorkPiece.ListedM) of PieceOf(span).
-func (c *Construction) ListedM(span string) (float64, bool) {
-	w, ok := c.PieceOf(span)
-	return w.ListedM, ok
-}
-
-// LateralListedM is the listed metres of LateralPiece(building, entrance).
-func (c *Construction) LateralListedM(building, entrance string) (float64, bool) {
-	w, ok := c.LateralPiece(building, entrance)
-	return w.ListedM, ok
-}
-
 // construction totals the new civil work: opened spans (trench and restoration on their
 // surface, or a directional bore, and a duct when the span is a duct), added ducts on existing
 // spans (one trench or bore beside the span however many ducts it gets) and a handhole where an opened span meets the

@@ -37,11 +37,11 @@ func TestListPiecesAddUp(t *testing.T) {
 	if len(c.Assumed) != 3 || c.Assumed[0].LengthM+c.Assumed[1].LengthM+c.Assumed[2].LengthM != 46.2 {
 		t.Errorf("assumed %+v, want the three laterals as listed, 46.2 m", c.Assumed)
 	}
-	if m, ok := c.LateralListedM("C", "1"); !ok || m != 12.1 {
-		t.Errorf("lateral of C: %v %v, want 12.1", m, ok)
+	if w, ok := c.LateralPiece("C", "1"); !ok || w.ListedM != 12.1 {
+		t.Errorf("lateral of C: %v %v, want 12.1", w.ListedM, ok)
 	}
-	if m, ok := c.ListedM("P-5"); !ok || m != 20.0 {
-		t.Errorf("span P-5: %v %v, want 20.0", m, ok)
+	if w, ok := c.PieceOf("P-5"); !ok || w.ListedM != 20.0 {
+		t.Errorf("span P-5: %v %v, want 20.0", w.ListedM, ok)
 	}
 
 	// Any pieces: per line, the listed decimetres add up to the line rounded; each piece

@@ -404,8 +404,8 @@ func planLayers(ctx context.Context, r *route.Result, sts func() (structureList,
 		links := entLinks[ent{e.Building, e.ID}]
 		lateralM := round1(e.LateralM)
 		if r.Estimate != nil { // a counted lateral the plan builds: as new_construction lists it
-			if m, ok := r.Estimate.Construction.LateralListedM(e.Building, e.ID); ok {
-				lateralM = m
+			if pc, ok := r.Estimate.Construction.LateralPiece(e.Building, e.ID); ok {
+				lateralM = pc.ListedM
 			}
 		}
 		add(LayerEntrances, at, e.ID, e.Building, e.Via, lateralM, len(links) > 0, ListText(links))

@@ -15,6 +15,7 @@ import (
 	"strconv"
 	"strings"
 
+	"spanwright/geo/input"
 	"spanwright/media"
 	"spanwright/media/install"
 	"spanwright/route"
@@ -584,12 +585,9 @@ func structureRows(sts []output.Structure, opt Options) ([]structureRow, listed)
 	shown := listOf(len(sts))
 	out := make([]structureRow, shown.Shown)
 	for i, st := range sts[:shown.Shown] {
-		legs := strings.Join(st.Legs[:min(len(st.Legs), structureLegs)], ", ")
-		if n := len(st.Legs) - structureLegs; n > 0 {
-			legs += fmt.Sprintf(" and %d more", n)
-		}
+		legs, more := input.Shown(st.Legs, structureLegs)
 		out[i] = structureRow{Mark: st.Mark, Place: st.Place(opt.lengthU), Status: st.Status, Type: st.Type, Purpose: st.Purpose,
-			Lon: strconv.FormatFloat(st.Point[0], 'f', 7, 64), Lat: strconv.FormatFloat(st.Point[1], 'f', 7, 64), Legs: legs,
+			Lon: strconv.FormatFloat(st.Point[0], 'f', 7, 64), Lat: strconv.FormatFloat(st.Point[1], 'f', 7, 64), Legs: strings.Join(legs, ", ") + more,
 			ToBuild: st.Status == output.StructureToBuild}
 	}
 	return out, shown

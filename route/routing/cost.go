@@ -516,7 +516,7 @@ type demandInfo struct {
 }
 
 // optionName is the name of the option of medium laid as lay: the medium alone for its
-// first option (priced as the cheapest cable its ends allow, media.Engine.CableFor), the
+// first option (priced as the cheapest cable its ends allow, media.Engine.CableLayingFor), the
 // medium and the laying for an option that may use spans the first may not (a buried span,
 // laid as outside-plant cable spliced at the entrances): "os2 as osp-loose-tube + ofnr-riser
 // at entrances".

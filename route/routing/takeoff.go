@@ -120,15 +120,20 @@ func takeoff(s *site.Site, d plan.Design, leg *Leg, built builtOn) CableTakeoff 
 		served = leg.Link.To
 	}
 	t.spans, t.served = spans, served
-	t.Splices, t.ReelsM = placeJoins(d, passes, spans, t.ChannelM, t.LengthM, served)
-	t.Joins, t.Reels = len(t.Splices), len(t.ReelsM)
-	if t.Joins > 0 {
-		t.LengthM = 0
-		for _, m := range t.ReelsM {
-			t.LengthM += m
-		}
-	}
+	t.LengthM = t.setReels(placeJoins(d, passes, spans, t.ChannelM, t.LengthM, served))
 	return t
+}
+
+// setReels sets the takeoff's mid-span splices and reels (placeJoins' answer; one reel of the
+// whole length without joins) and returns the metres bought on them, the reels added up.
+func (t *CableTakeoff) setReels(splices []SplicePoint, reelsM []float64) float64 {
+	t.Splices, t.ReelsM = splices, reelsM
+	t.Joins, t.Reels = len(splices), len(reelsM)
+	var sum float64
+	for _, m := range reelsM {
+		sum += m
+	}
+	return sum
 }
 
 // joinsAtReelEnds is t with its mid-span splices at its reels' ends (splice points to build,
@@ -146,15 +151,7 @@ func (t CableTakeoff) joinsAtReelEnds(d plan.Design) (CableTakeoff, bool) {
 	for i := range splices {
 		splices[i].AtReelEnd = true
 	}
-	t.Splices, t.ReelsM = splices, reelsM
-	t.Joins, t.Reels = len(splices), len(reelsM)
-	t.LengthM = lengthM
-	if t.Joins > 0 {
-		t.LengthM = 0
-		for _, m := range reelsM {
-			t.LengthM += m
-		}
-	}
+	t.LengthM = t.setReels(splices, reelsM)
 	return t, true
 }
 
@@ -478,11 +475,6 @@ func (t *CableTakeoff) cutOutside(d plan.Design) bool {
 		splices[i].ChannelM += startM
 	}
 	changed := len(splices) != t.Joins
-	t.Splices, t.ReelsM = splices, reelsM
-	t.Joins, t.Reels = len(splices), len(reelsM)
-	t.LengthM = t.InsideLengthM
-	for _, m := range reelsM {
-		t.LengthM += m
-	}
+	t.LengthM = t.InsideLengthM + t.setReels(splices, reelsM)
 	return changed
 }

@@ -67,9 +67,14 @@ func ReadComparison(dir string) (*Comparison, error) {
 			return nil, fmt.Errorf("read comparison: %s: scenario %d missing", path, i)
 		}
 	}
+	return h.judge(rows), nil
+}
+
+// judge is Judge on rows read back with their header h, in the units the rows were written in.
+func (h rowsHeader) judge(rows []Row) *Comparison {
 	c := Judge(rows, h.Keys)
 	c.Units = h.Units
-	return c, nil
+	return c
 }
 
 // CompareFunc renders more comparison files (a report) from a finished sweep's comparison;
@@ -84,7 +89,5 @@ func judgeEncoded(data []byte) (*Comparison, error) {
 	if err != nil {
 		return nil, err
 	}
-	c := Judge(rows, h.Keys)
-	c.Units = h.Units
-	return c, nil
+	return h.judge(rows), nil
 }
