@@ -357,15 +357,15 @@ func Build(ctx context.Context, in Input) (*Estimate, error) {
 			continue
 		}
 		for k, sp := range l.Cable.Splices {
-			if sp.AtReelEnd {
-				e.Warnings = append(e.Warnings, fmt.Sprintf("%s %s: mid-span splice %d of %d is placed at its reel's end (%s), not in the last structure before it: there the leg would take a join more and its loss budget would not close; build a splice point there (a handhole, or a closure on an aerial span's strand): the bill's \""+SplicePointItem+"\" line, at splice_point_each",
-					l.Link.ID, l.Name, k+1, len(l.Cable.Splices), sp.Text(MetresText)))
+			if !sp.NoStructure {
 				continue
 			}
-			if sp.NoStructure {
-				e.Warnings = append(e.Warnings, fmt.Sprintf("%s %s: mid-span splice %d of %d has no maintenance hole or handhole within its reel's reach (%s); build a splice point there (a handhole, or a closure on an aerial span's strand): the bill's \""+SplicePointItem+"\" line, at splice_point_each",
-					l.Link.ID, l.Name, k+1, len(l.Cable.Splices), sp.Text(MetresText)))
+			why := "has no maintenance hole or handhole within its reel's reach (%s);"
+			if sp.AtReelEnd {
+				why = "is placed at its reel's end (%s), not in the last structure before it: there the leg would take a join more and its loss budget would not close;"
 			}
+			e.Warnings = append(e.Warnings, fmt.Sprintf("%s %s: mid-span splice %d of %d "+why+" build a splice point there (a handhole, or a closure on an aerial span's strand): the bill's \""+SplicePointItem+"\" line, at splice_point_each",
+				l.Link.ID, l.Name, k+1, len(l.Cable.Splices), sp.Text(MetresText)))
 		}
 	}
 	for _, step := range []func(){r.ductFill, r.connectivity, r.construction, r.quantities} {
