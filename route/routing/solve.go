@@ -13,6 +13,7 @@ import (
 	"spanwright/route/internal/ctxio"
 	"spanwright/route/items"
 	"spanwright/route/optimize"
+	"spanwright/route/plan"
 	"spanwright/route/site"
 )
 
@@ -137,7 +138,7 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 		}
 		return nil, fmt.Errorf("route: optimizer: %w", err)
 	}
-	r := &Routed{ObjectiveCents: sol.TotalCents, LowerBoundCents: sol.LowerBoundCents, Fill: fillReport(s, prob, sol), StartSame: reused}
+	r := &Routed{StartSame: reused}
 	if start == nil || reused {
 		r.ProblemSHA256 = cold
 	}
@@ -151,57 +152,36 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 			r.StartUnused = append(r.StartUnused, links[d].ID+" ("+unfit[d]+")")
 		}
 	}
-	for _, e := range sol.Opened {
-		r.Opened = append(r.Opened, s.Net.Spans[e].ID)
+	legs, unpaid, err := m.measure(ctx, s, lay, prob, sol, links, infos, runs, r)
+	if err != nil {
+		return nil, err
 	}
-
-	for _, run := range runs {
-		if slices.Contains(r.Opened, run.Steps[0].SpanID) {
-			r.Runs = append(r.Runs, run)
-		}
-	}
-	infeasible := map[int]string{}
-	for _, in := range sol.Infeasible {
-		info := infos[in.Demand]
-		infeasible[in.Demand] = lay.explain(in, &links[in.Demand], func(name string, c spanClass) string {
-			return m.whyNot(name, info, c)
-		})
-		if l := &links[in.Demand]; !m.design.AllowNewTrench {
-			if why := s.ProposedOnlyReason(l.From, l.To); why != "" {
-				infeasible[in.Demand] = why + "; " + infeasible[in.Demand]
+	if beyond := beyondReach(sol, legs); beyond > 0 {
+		// Legs the optimizer kept within reach that the rules now reject: the slack loops they
+		// leave in handholes other routes build (at junctions they pass straight through) are
+		// in their channels but were not in the search's reach. Searched again from these
+		// routes with those loops in the reach (passLoops), the plan is kept when it leaves
+		// fewer legs infeasible.
+		again := opt
+		again.Start = optimize.StartFrom(sol)
+		sol2, _, _, err := solve(ctx, s, lay, passLoops(s, m.design, lay, prob, handholeJunctions(r.Handholes)), again, "")
+		if err != nil {
+			if ctx.Err() != nil {
+				return nil, ctx.Err()
 			}
+			return nil, fmt.Errorf("route: optimizer: %w", err)
 		}
-	}
-	// The handholes the plan builds, where every leg passing them leaves a slack loop
-	// (passesOf): along its runs of new construction, and at junctions, known from the routes
-	// before the media are chosen, but for the taps of buildings with one entrance, built when a
-	// feasible leg uses the entrance: taken first as every routed leg's, then as the feasible
-	// legs' until the two agree (a leg the rules reject leaves its tap unbuilt, and the legs
-	// passing that junction are measured again).
-	built := builtOn{along: site.HandholesBySpan(r.Runs)}
-	hs, _ := handholesOf(s, lay, prob, sol, routedTaps(s, lay, sol, links))
-	built.at = handholeJunctions(hs)
-	var unpaid int64 // handholes of prepaid charges that no used tap paid (prepaidTaps)
-	legs := make([][]Leg, len(links))
-	for round := 1; ; round++ {
-		// Each link's legs are its own (the engine's caches are safe for concurrent use, the
-		// rest is read): worked out side by side, assembled in link order.
-		if err := ctxio.Each(ctx, len(links), func(i int) {
-			legs[i] = legsOf(s, m, lay, prob, &sol.Routes[i], &links[i], infos[i], infeasible[i], built)
-		}); err != nil {
+		r2 := *r
+		r2.Legs = nil // r's own are kept if the first plan stands
+		legs2, unpaid2, err := m.measure(ctx, s, lay, prob, sol2, links, infos, runs, &r2)
+		if err != nil {
 			return nil, err
 		}
-		r.Legs = r.Legs[:0]
-		for _, l := range legs {
-			r.Legs = append(r.Legs, l...)
+		if beyondReach(sol2, legs2) < beyond {
+			// The first search's bound holds for the second's problem, whose reach is tighter.
+			r2.LowerBoundCents = max(r.LowerBoundCents, r2.LowerBoundCents)
+			*r, sol, legs, unpaid = r2, sol2, legs2, unpaid2
 		}
-		r.Entrances = entrancesUsed(s, lay, r.Legs)
-		r.Handholes, unpaid = handholesOf(s, lay, prob, sol, r.Entrances)
-		at := handholeJunctions(r.Handholes)
-		if maps.Equal(at, built.at) || round == maxHandholeRounds {
-			break
-		}
-		built.at = at
 	}
 	// The passes through handholes at junctions that the optimizer's edges price in part or not
 	// at all, priced here on the routes it returned (passGapCents).
@@ -237,6 +217,84 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 		r.LowerBoundCents += r.ConstantCents // paid by every plan alike
 	}
 	return r, nil
+}
+
+// measure fills r from the optimizer's solution sol of prob: its objective and bound, the
+// spans it opens, the legs of every link with their media and takeoffs, the entrances and
+// the handholes the plan builds. It returns the legs by link and how many prepaid handholes
+// no used tap paid (prepaidTaps).
+func (m *Model) measure(ctx context.Context, s *site.Site, lay *layout, prob *optimize.Problem, sol *optimize.Solution, links []site.Link, infos []demandInfo, runs []site.NewRun, r *Routed) (legs [][]Leg, unpaid int64, err error) {
+	r.ObjectiveCents, r.LowerBoundCents, r.Fill = sol.TotalCents, sol.LowerBoundCents, fillReport(s, prob, sol)
+	r.Opened, r.Runs = nil, nil
+	for _, e := range sol.Opened {
+		r.Opened = append(r.Opened, s.Net.Spans[e].ID)
+	}
+
+	for _, run := range runs {
+		if slices.Contains(r.Opened, run.Steps[0].SpanID) {
+			r.Runs = append(r.Runs, run)
+		}
+	}
+	infeasible := map[int]string{}
+	for _, in := range sol.Infeasible {
+		info := infos[in.Demand]
+		infeasible[in.Demand] = lay.explain(in, &links[in.Demand], func(name string, c spanClass) string {
+			return m.whyNot(name, info, c)
+		})
+		if l := &links[in.Demand]; !m.design.AllowNewTrench {
+			if why := s.ProposedOnlyReason(l.From, l.To); why != "" {
+				infeasible[in.Demand] = why + "; " + infeasible[in.Demand]
+			}
+		}
+	}
+	// The handholes the plan builds, where every leg passing them leaves a slack loop
+	// (passesOf): along its runs of new construction, and at junctions, known from the routes
+	// before the media are chosen, but for the taps of buildings with one entrance, built when a
+	// feasible leg uses the entrance: taken first as every routed leg's, then as the feasible
+	// legs' until the two agree (a leg the rules reject leaves its tap unbuilt, and the legs
+	// passing that junction are measured again).
+	built := builtOn{along: site.HandholesBySpan(r.Runs)}
+	hs, _ := handholesOf(s, lay, prob, sol, routedTaps(s, lay, sol, links))
+	built.at = handholeJunctions(hs)
+	legs = make([][]Leg, len(links))
+	for round := 1; ; round++ {
+		// Each link's legs are its own (the engine's caches are safe for concurrent use, the
+		// rest is read): worked out side by side, assembled in link order.
+		if err := ctxio.Each(ctx, len(links), func(i int) {
+			legs[i] = legsOf(s, m, lay, prob, &sol.Routes[i], &links[i], infos[i], infeasible[i], built)
+		}); err != nil {
+			return nil, 0, err
+		}
+		r.Legs = r.Legs[:0]
+		for _, l := range legs {
+			r.Legs = append(r.Legs, l...)
+		}
+		r.Entrances = entrancesUsed(s, lay, r.Legs)
+		r.Handholes, unpaid = handholesOf(s, lay, prob, sol, r.Entrances)
+		at := handholeJunctions(r.Handholes)
+		if maps.Equal(at, built.at) || round == maxHandholeRounds {
+			break
+		}
+		built.at = at
+	}
+	return legs, unpaid, nil
+}
+
+// beyondReach counts the legs of links the optimizer routed within reach (sol) that the rules
+// reject on the routes' own facts.
+func beyondReach(sol *optimize.Solution, legs [][]Leg) int {
+	n := 0
+	for i, ls := range legs {
+		if !sol.Routes[i].Feasible {
+			continue
+		}
+		for _, l := range ls {
+			if !l.Feasible && l.Steps != nil {
+				n++
+			}
+		}
+	}
+	return n
 }
 
 // legsThrough indexes the feasible legs, in leg order, by the building entrances they use
@@ -477,4 +535,32 @@ func tapOf(s *site.Site, e geo.Entry) string {
 		return e.Junction
 	}
 	return ""
+}
+
+// passLoops is prob with, in its edges' reach (optimize.Edge.ReachM), the slack loop a route
+// leaves in each handhole the plan builds at a junction of at (Routed.Handholes), as its legs'
+// takeoffs count it (passesOf), whichever route's turn, tap or join builds it: half a loop at
+// each span end there that the edge does not count already (a joining end, joinEnds), none
+// on the turn edges there, which the spans' halves now cover. The search's own edges count a
+// loop only where the route itself turns or joins; a route passing straight through another's
+// handhole leaves a loop there all the same.
+func passLoops(s *site.Site, d plan.Design, lay *layout, prob *optimize.Problem, at map[string]bool) *optimize.Problem {
+	p := *prob
+	p.Edges = slices.Clone(prob.Edges)
+	half := d.SlackLoopStructureM / 2
+	for i := range s.Net.Spans {
+		sp := &s.Net.Spans[i]
+		for k, j := range [2]string{sp.From, sp.To} {
+			counted := sp.Status == geo.StatusProposed && s.JoinsNetwork(j) && !lay.carriedEnd[i][k]
+			if at[j] && !counted {
+				p.Edges[i].ReachM += half
+			}
+		}
+	}
+	for k, x := range lay.extra {
+		if x.kind == edgeTurn && at[x.junction] {
+			p.Edges[len(s.Net.Spans)+k].ReachM = 0
+		}
+	}
+	return &p
 }
