@@ -18,6 +18,9 @@ func Fingerprint(p *Problem, opt Settings) (sum [sha256.Size]byte, ok bool) {
 	f := fingerprinter{b: make([]byte, 0, 64*len(p.Edges)+96*len(p.Demands)+64)}
 	f.str(opt.Objective)
 	f.int(int64(opt.MaxRounds))
+	if opt.PlaceOnly { // only when set: the bytes without it are as before
+		f.str("place only")
+	}
 	if len(opt.Start) > 0 { // only when given: the bytes without a start are as before
 		f.int(int64(len(opt.Start)))
 		for _, r := range opt.Start {

@@ -1091,6 +1091,9 @@ func (sv *solver) run() {
 	} else {
 		sv.start(false)
 	}
+	if sv.placeOnly {
+		return
+	}
 	if sv.dualSteers() {
 		sv.joinDual()
 	}

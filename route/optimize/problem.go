@@ -232,6 +232,11 @@ type Settings struct {
 	// (every proposed edge free), whose purpose the start serves. The answer depends on the
 	// start: the same problem and start give the same solution.
 	Start []StartRoute
+	// PlaceOnly, with a Start, keeps every start route that fits and places the other
+	// demands as the first plan places them, and searches no further (no local search, no
+	// perturbation): the start's plan mended where it no longer fits, such as routes a
+	// tighter reach rules out. The lower bound is computed as always.
+	PlaceOnly bool
 }
 
 // StartRoute is one demand's route in Settings.Start.

@@ -249,6 +249,8 @@ type solver struct {
 	warm []StartRoute
 	// startUnused are the demands whose start route did not fit (Solution.StartUnused).
 	startUnused []int
+	// placeOnly: the warm start's plan, mended, is the answer (Settings.PlaceOnly).
+	placeOnly bool
 	// dual is the lower bound's ascent (lowerbound.go), nil for the length objective and
 	// until joinDual takes it from waitDual, which waits for the ascent running beside.
 	dual     *dualBound
@@ -271,7 +273,7 @@ func newSolver(p *Problem, opt Settings) *solver {
 		memos: make([]rerouteMemo, len(p.Demands)), qSt: make([]uint32, ne), qLevel: make([]uint8, ne),
 		selfSt: 1, ownSt: 1, // see endOwn
 		pendD: -1, pendSt: 1, pendMark: make([]uint32, ne),
-		warm: opt.Start,
+		warm: opt.Start, placeOnly: opt.PlaceOnly && len(opt.Start) > 0,
 	}
 	if sv.maxRounds == 0 {
 		sv.maxRounds = DefaultMaxRounds

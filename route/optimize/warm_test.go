@@ -116,3 +116,51 @@ func countProposed(p *Problem) int {
 	}
 	return n
 }
+
+// TestPlaceOnly: with Settings.PlaceOnly a start that fits is the answer route for route,
+// searched no further even where prices moved (a start from cheaper trench), and a demand
+// whose start route no longer fits is placed again while every other keeps its route; the
+// plan is valid and its bound the same as without PlaceOnly.
+func TestPlaceOnly(t *testing.T) {
+	t.Parallel()
+	base := campus(campusSpec{buildings: 40, seed: 31, diverseFrac: 0.1, options: 3, capacity: true, proposedPct: 15})
+	bs, err := Solve(base, Settings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	start := StartFrom(bs)
+	p := repriced(base, 3, 1)
+	got, err := Solve(p, Settings{Start: start, PlaceOnly: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	verify(t, "place only", p, got)
+	for d, r := range StartFrom(got) {
+		if fmt.Sprint(r) != fmt.Sprint(start[d]) {
+			t.Errorf("demand %d: route changed with a start that fits", d)
+		}
+	}
+	searched, _ := Solve(p, Settings{Start: start})
+	if got.LowerBoundCents != searched.LowerBoundCents {
+		t.Errorf("bound %d placing only, %d searching: want the same", got.LowerBoundCents, searched.LowerBoundCents)
+	}
+	// Demand 3's route broken: only it moves.
+	broken := append([]StartRoute(nil), start...)
+	broken[3].Legs = [][]Hop{{{Edge: len(base.Edges) + 5, Forward: true}}}
+	mended, err := Solve(base, Settings{Start: broken, PlaceOnly: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	verify(t, "mended", base, mended)
+	if fmt.Sprint(mended.StartUnused) != "[3]" {
+		t.Errorf("start routes unused %v, want [3]", mended.StartUnused)
+	}
+	for d, r := range StartFrom(mended) {
+		if d != 3 && fmt.Sprint(r) != fmt.Sprint(start[d]) {
+			t.Errorf("demand %d: route changed, want only demand 3 placed again", d)
+		}
+	}
+	if !mended.Routes[3].Feasible {
+		t.Errorf("demand 3 not placed again")
+	}
+}

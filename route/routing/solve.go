@@ -156,14 +156,14 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 	if err != nil {
 		return nil, err
 	}
-	if beyond := beyondReach(sol, legs); beyond > 0 {
-		// Legs the optimizer kept within reach that the rules now reject: the slack loops they
+	if beyondReach(sol, legs) {
+		// Legs the optimizer kept within reach that the rules reject: the slack loops they
 		// leave in handholes other routes build (at junctions they pass straight through) are
-		// in their channels but were not in the search's reach. Searched again from these
-		// routes with those loops in the reach (passLoops), the plan is kept when it leaves
-		// fewer legs infeasible.
+		// in their channels but not in the search's reach. The plan's routes that stay within
+		// reach with those loops counted (passLoops) are kept and the others placed again
+		// (optimize.Settings.PlaceOnly); that plan stands when it leaves fewer legs infeasible.
 		again := opt
-		again.Start = optimize.StartFrom(sol)
+		again.Start, again.PlaceOnly = optimize.StartFrom(sol), true
 		sol2, _, _, err := solve(ctx, s, lay, passLoops(s, m.design, lay, prob, handholeJunctions(r.Handholes)), again, "")
 		if err != nil {
 			if ctx.Err() != nil {
@@ -177,9 +177,7 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 		if err != nil {
 			return nil, err
 		}
-		if beyondReach(sol2, legs2) < beyond {
-			// The first search's bound holds for the second's problem, whose reach is tighter.
-			r2.LowerBoundCents = max(r.LowerBoundCents, r2.LowerBoundCents)
+		if infeasibleLegs(r2.Legs) < infeasibleLegs(r.Legs) {
 			*r, sol, legs, unpaid = r2, sol2, legs2, unpaid2
 		}
 	}
@@ -280,18 +278,25 @@ func (m *Model) measure(ctx context.Context, s *site.Site, lay *layout, prob *op
 	return legs, unpaid, nil
 }
 
-// beyondReach counts the legs of links the optimizer routed within reach (sol) that the rules
-// reject on the routes' own facts.
-func beyondReach(sol *optimize.Solution, legs [][]Leg) int {
-	n := 0
+// beyondReach reports whether the rules reject a leg of a link the optimizer routed within
+// reach (sol).
+func beyondReach(sol *optimize.Solution, legs [][]Leg) bool {
 	for i, ls := range legs {
-		if !sol.Routes[i].Feasible {
-			continue
-		}
 		for _, l := range ls {
-			if !l.Feasible && l.Steps != nil {
-				n++
+			if sol.Routes[i].Feasible && !l.Feasible && l.Steps != nil {
+				return true
 			}
+		}
+	}
+	return false
+}
+
+// infeasibleLegs counts the legs that are not feasible.
+func infeasibleLegs(legs []Leg) int {
+	n := 0
+	for i := range legs {
+		if !legs[i].Feasible {
+			n++
 		}
 	}
 	return n
