@@ -831,15 +831,12 @@ func (b *builder) structureMisses(n *Network) []NearMiss {
 	}
 	r := structureMissFactor * b.snap
 	g := newGrid(b.cellM)
-	xys := make([]vec, len(b.c.Structures))
-	for si, st := range b.c.Structures {
-		xys[si] = b.proj.xy(st.Point)
-		g.addPoint(si, xys[si])
-	}
+	xys := make([]vec, len(b.c.Structures))  // each structure's point, as joinStructures projected it
 	root := make([]int, len(b.c.Structures)) // the structure's junction root
 	for i, m := range b.mem {
 		if m.kind == memStructure {
-			root[m.ref] = b.find(i)
+			xys[m.ref], root[m.ref] = m.xy, b.find(i)
+			g.addPoint(m.ref, m.xy)
 		}
 	}
 	var out []NearMiss
