@@ -226,15 +226,40 @@ const straightOnDeg = 30
 // between in a structure.
 const maxBendDeg = 90
 
-// sameDucts reports whether spans a and b carry the same ducts, as far as the campus says:
-// the same pathway type and status, the same spare ducts and duct size, and no two different
-// shared-risk groups given (a group left out is the pathway's own id, which says nothing).
-// Two such pathways meeting end to end are one duct drawn in two features, as a facilities
-// GIS splits a pathway where another joins it (common practice, no published source).
-func sameDucts(a, b *Span) bool {
-	given := func(s *Span) bool { return s.Group != s.PathwayID }
-	return a.Type == b.Type && a.Status == b.Status && a.SpareDucts == b.SpareDucts && a.DuctMM == b.DuctMM &&
-		(a.Group == b.Group || !given(a) || !given(b))
+// ductFacts is what a pathway, or a span of one, says of its ducts: the facts sameDucts
+// compares.
+type ductFacts struct {
+	typ, status string
+	spare       int
+	ductMM      float64
+	group, own  string // the shared-risk group and the pathway's own id (its group when none is given)
+}
+
+func (p *Pathway) ductFacts() ductFacts {
+	return ductFacts{p.Type, p.Status, p.SpareDucts, p.DuctMM, p.Group, p.ID}
+}
+
+func (s *Span) ductFacts() ductFacts {
+	return ductFacts{s.Type, s.Status, s.SpareDucts, s.DuctMM, s.Group, s.PathwayID}
+}
+
+// givenGroup is the shared-risk group when one is given, else "".
+func (d ductFacts) givenGroup() string {
+	if d.group == d.own {
+		return ""
+	}
+	return d.group
+}
+
+// sameDucts reports whether a and b (two spans, or two pathways) carry the same ducts, as far
+// as the campus says: the same pathway type and status, the same spare ducts and duct size,
+// and no two different shared-risk groups given (a group left out is the pathway's own id,
+// which says nothing). Two such pathways meeting end to end are one duct drawn in two
+// features, as a facilities GIS splits a pathway where another joins it (common practice, no
+// published source).
+func sameDucts(a, b ductFacts) bool {
+	return a.typ == b.typ && a.status == b.status && a.spare == b.spare && a.ductMM == b.ductMM &&
+		(a.group == b.group || a.group == a.own || b.group == b.own)
 }
 
 // RunsAt groups spans, the spans ending at junction j as indices into Spans in index order,
@@ -300,7 +325,7 @@ func (n *Network) RunsAt(j string, spans []int) [][]int {
 		}
 		best, next := -1, math.Inf(1)
 		for b := range spans {
-			if b == a || carriedOn[b] || !sameDucts(span(a), span(b)) {
+			if b == a || carriedOn[b] || !sameDucts(span(a).ductFacts(), span(b).ductFacts()) {
 				continue
 			}
 			switch d := turn[a][b]; {

@@ -67,25 +67,13 @@ type olPair struct {
 	st   []stretch
 }
 
-// sameDuctsPW is sameDucts for two pathways: the same type and status, spare ducts and duct
-// size, and no two different shared-risk groups given.
-func sameDuctsPW(a, b *Pathway) bool {
-	return a.Type == b.Type && a.Status == b.Status && a.SpareDucts == b.SpareDucts && a.DuctMM == b.DuctMM &&
-		(a.Group == b.Group || a.Group == a.ID || b.Group == b.ID)
-}
-
 // sameProps reports whether pathways a and b say the same of their ducts in every property but
-// their ids.
+// their ids: they carry the same ducts (sameDucts), in the same setting, and give the same
+// shared-risk group or none.
 func sameProps(a, b *Pathway) bool {
-	group := func(p *Pathway) string {
-		if p.Group == p.ID {
-			return ""
-		}
-		return p.Group
-	}
-	return a.Type == b.Type && a.Status == b.Status && a.SpareDucts == b.SpareDucts && a.DuctMM == b.DuctMM &&
-		a.EMI == b.EMI && a.Surface == b.Surface && a.Method == b.Method && a.MethodSet == b.MethodSet &&
-		a.Plenum == b.Plenum && group(a) == group(b)
+	da, db := a.ductFacts(), b.ductFacts()
+	return sameDucts(da, db) && a.EMI == b.EMI && a.Surface == b.Surface && a.Method == b.Method &&
+		a.MethodSet == b.MethodSet && a.Plenum == b.Plenum && da.givenGroup() == db.givenGroup()
 }
 
 // shape is a pathway's lines in a form that does not depend on the direction each is drawn
@@ -160,7 +148,7 @@ func hintOf(pw *Pathway) shapeHint {
 //   - a pathway that is another drawn again (the same lines, in any direction and order, and
 //     the same properties but its id) is dropped, with a Warning on it naming the one kept
 //     (the lower id): a segment exported twice is one duct, not two;
-//   - two pathways that carry the same ducts (sameDuctsPW), each ending on the other, drawn
+//   - two pathways that carry the same ducts (sameDucts), each ending on the other, drawn
 //     along each other for more than SnapM and at most overlapJoinM are cut back to meet at
 //     one point (a structure within SnapM of the overlap, else its middle), with a Warning:
 //     one run drawn in pieces that overshoot their join;
@@ -283,7 +271,7 @@ func (b *builder) overlaps() {
 		}
 		pa, pb := &c.Pathways[la.pw], &c.Pathways[lb.pw] // pa.ID < pb.ID
 		// Up to overlapJoinM to the millimetre: an overshoot drawn as 5 m is 5 m.
-		if len(merged) == 1 && total <= overlapJoinM+1e-3 && sameDuctsPW(pa, pb) {
+		if len(merged) == 1 && total <= overlapJoinM+1e-3 && sameDucts(pa.ductFacts(), pb.ductFacts()) {
 			m := merged[0]
 			// Where the stretch's ends lie along lb.
 			_, x0 := la.at(m.a0)
