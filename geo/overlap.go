@@ -82,12 +82,7 @@ func sameProps(a, b *Pathway) bool {
 func shape(pw *Pathway) []orb.LineString {
 	lines := make([]orb.LineString, 0, len(pw.Lines))
 	for _, ls := range pw.Lines {
-		var pts orb.LineString
-		for _, p := range ls {
-			if len(pts) == 0 || pts[len(pts)-1] != p {
-				pts = append(pts, p)
-			}
-		}
+		pts := dropRepeats(make(orb.LineString, 0, len(ls)), ls)
 		if n := len(pts); n > 0 && lessLL(pts[n-1], pts[0]) {
 			slices.Reverse(pts)
 		}
@@ -120,15 +115,13 @@ type shapeHint struct {
 	lines, npts int
 }
 
-func hintOf(pw *Pathway) shapeHint {
+// hintOf is pw's shapeHint; buf is scratch, returned for the next call.
+func hintOf(pw *Pathway, buf orb.LineString) (shapeHint, orb.LineString) {
 	h := shapeHint{lines: len(pw.Lines)}
 	first := true
 	for _, ls := range pw.Lines {
-		for i, p := range ls {
-			if i == 0 || p != ls[i-1] {
-				h.npts++
-			}
-		}
+		buf = dropRepeats(buf[:0], ls)
+		h.npts += len(buf)
 		if len(ls) == 0 {
 			continue
 		}
@@ -140,7 +133,7 @@ func hintOf(pw *Pathway) shapeHint {
 			h.lo, h.hi, first = lo, hi, false
 		}
 	}
-	return h
+	return h, buf
 }
 
 // overlaps looks for pathways drawn on top of one another before noding, on a copy of the
@@ -175,22 +168,9 @@ func (b *builder) overlaps() {
 	lines := make([]oline, 0, nl)
 	for pi := range c.Pathways {
 		for k, src := range c.Pathways[pi].Lines {
-			l := oline{pw: pi, k: k, ll: make(orb.LineString, 0, len(src))}
-			for _, p := range src {
-				if len(l.ll) == 0 || l.ll[len(l.ll)-1] != p {
-					l.ll = append(l.ll, p)
-				}
-			}
-			l.xy, l.cum = make([]vec, len(l.ll)), make([]float64, len(l.ll))
-			for i, p := range l.ll {
-				l.xy[i] = b.proj.xy(p)
-				if i > 0 {
-					l.cum[i] = l.cum[i-1] + l.xy[i].dist(l.xy[i-1])
-				}
-			}
-			if len(l.ll) >= 2 {
-				lines = append(lines, l)
-			}
+			l := oline{pw: pi, k: k}
+			l.ll, l.xy, l.cum = b.projectLine(src) // two distinct positions at least (validate)
+			lines = append(lines, l)
 		}
 	}
 	type segID struct{ line, i int }
@@ -313,7 +293,7 @@ func (b *builder) overlaps() {
 	if len(trims) == 0 {
 		if !dropped {
 			// The lines are the parts setup makes, in its order: its segment index is this one.
-			b.segGrid, b.segsIndexed, b.olines = g, true, lines
+			b.segGrid, b.olines = g, lines
 		}
 		return
 	}
@@ -445,8 +425,10 @@ func (b *builder) dropDuplicates() bool {
 	c := b.c
 	// Only pathways with one hint can be one drawing.
 	first := make(map[shapeHint][]int)
+	var buf orb.LineString
 	for i := range c.Pathways {
-		k := hintOf(&c.Pathways[i])
+		var k shapeHint
+		k, buf = hintOf(&c.Pathways[i], buf)
 		first[k] = append(first[k], i)
 	}
 	drop := make(map[int]bool)
