@@ -492,8 +492,9 @@ func built(n *Network, at map[string]int) {
 // duct, which only the campus's author can confirm. walled says the building is entered
 // where such pathways cross its wall (wallDoors), which the warning then says.
 //
-// It returns, in b.pws, the pathways (index) that run inside f for more than SnapM so.
-func (b *builder) through(id string, f *footprint, pws []int, partsOf [][2]int, walled bool) {
+// It returns the pathways (index, ascending) that run inside f for more than SnapM so, in
+// b.pws's storage: good until the next call.
+func (b *builder) through(id string, f *footprint, pws []int, partsOf [][2]int, walled bool) []int {
 	b.pws = b.pws[:0]
 	for _, pw := range pws {
 		p := &b.c.Pathways[pw]
@@ -529,7 +530,7 @@ func (b *builder) through(id string, f *footprint, pws []int, partsOf [][2]int, 
 			"existing pathway %q runs %.1f m inside the footprint of building %q, not only to its wall: routes along it pass beneath the building, and those metres count as outside plant;%s check that it runs there, or draw it around the building, or to the wall where it enters",
 			p.ID, inM, id, entered)})
 	}
-	b.pws = passing
+	return passing
 }
 
 // passedM is the projected length of part p inside footprint f, less the stretches from an
@@ -603,8 +604,8 @@ func (b *builder) transit(n *Network) {
 					t.Interior = append(t.Interior, b.c.Pathways[pw].ID)
 				}
 			}
-			b.through(bl.ID, f, pws, partsOf, b.walled[bi])
-			for _, pw := range b.pws { // a span passes beneath only where its pathway does
+			passing := b.through(bl.ID, f, pws, partsOf, b.walled[bi])
+			for _, pw := range passing { // a span passes beneath only where its pathway does
 				for _, si := range spansOf[b.c.Pathways[pw].ID] {
 					if at, ok := b.passesBeneath(f, n.Spans[si].Line); ok {
 						beneath[si] = append(beneath[si], under{bl.ID, at})
