@@ -588,6 +588,27 @@ func (b *builder) transit(n *Network) {
 		alongM   float64 // where the span enters the footprint, from its From end
 	}
 	beneath := make(map[int][]under)
+	// Each duct or buried span's line on the local projection, with its bounding box,
+	// projected the first time a building it may pass beneath asks for it (by span index).
+	type spanXY struct {
+		xy     []vec
+		lo, hi vec
+	}
+	spanXYs := make(map[int]*spanXY)
+	xyOf := func(si int) *spanXY {
+		s := spanXYs[si]
+		if s == nil {
+			line := n.Spans[si].Line
+			s = &spanXY{xy: make([]vec, len(line)), lo: vec{math.Inf(1), math.Inf(1)}, hi: vec{math.Inf(-1), math.Inf(-1)}}
+			spanXYs[si] = s
+			for i, p := range line {
+				s.xy[i] = b.proj.xy(p)
+				s.lo = vec{math.Min(s.lo.x, s.xy[i].x), math.Min(s.lo.y, s.xy[i].y)}
+				s.hi = vec{math.Max(s.hi.x, s.xy[i].x), math.Max(s.hi.y, s.xy[i].y)}
+			}
+		}
+		return s
+	}
 	for bi, bl := range b.c.Buildings {
 		t := Transit{Building: bl.ID, Marked: bl.Transit}
 		f := &b.feet[bi]
@@ -607,7 +628,11 @@ func (b *builder) transit(n *Network) {
 			passing := b.through(bl.ID, f, pws, partsOf, b.walled[bi])
 			for _, pw := range passing { // a span passes beneath only where its pathway does
 				for _, si := range spansOf[b.c.Pathways[pw].ID] {
-					if at, ok := b.passesBeneath(f, n.Spans[si].Line); ok {
+					s := xyOf(si)
+					if boxesMiss(s.lo, s.hi, f.lo, f.hi) {
+						continue // nowhere near f: passesBeneath would find nothing
+					}
+					if at, ok := b.passesBeneath(f, s.xy); ok {
 						beneath[si] = append(beneath[si], under{bl.ID, at})
 					}
 				}
@@ -637,17 +662,13 @@ func (b *builder) transit(n *Network) {
 	}
 }
 
-// passesBeneath reports whether line (a span's, lon/lat) runs across footprint f for more
-// than SnapM (projected) in stretches that begin and end at its boundary, not at an end of the
-// line inside it, and where along the line (projected metres from its first point) the first
-// such stretch begins.
-func (b *builder) passesBeneath(f *footprint, line orb.LineString) (float64, bool) {
-	if len(line) < 2 {
+// passesBeneath reports whether line xy (a span's, on the local projection) runs across
+// footprint f for more than SnapM (projected) in stretches that begin and end at its
+// boundary, not at an end of the line inside it, and where along the line (projected metres
+// from its first point) the first such stretch begins.
+func (b *builder) passesBeneath(f *footprint, xy []vec) (float64, bool) {
+	if len(xy) < 2 {
 		return 0, false
-	}
-	xy := make([]vec, len(line))
-	for i, p := range line {
-		xy[i] = b.proj.xy(p)
 	}
 	deep := func(p vec) bool { // an end more than SnapM inside the footprint
 		if !f.contains(p) {
@@ -739,7 +760,7 @@ func (f *footprint) crossings(a, c vec, ts []float64) []float64 {
 // insideParts calls each, in order along segment ac, with the fractions t0 < t1 of every
 // stretch of it inside footprint f (between two crossings of its rings); ts is scratch.
 func (f *footprint) insideParts(a, c vec, ts []float64, each func(t0, t1 float64)) {
-	if math.Max(a.x, c.x) < f.lo.x || math.Min(a.x, c.x) > f.hi.x || math.Max(a.y, c.y) < f.lo.y || math.Min(a.y, c.y) > f.hi.y {
+	if boxesMiss(vec{math.Min(a.x, c.x), math.Min(a.y, c.y)}, vec{math.Max(a.x, c.x), math.Max(a.y, c.y)}, f.lo, f.hi) {
 		return
 	}
 	ts = f.crossings(a, c, append(ts[:0], 0, 1))
