@@ -229,26 +229,25 @@ type builder struct {
 
 	proj  projector
 	cellM float64 // the grids' cell size, in metres
-	// segsIndexed says segGrid already lists every segment as setup numbers them, and
-	// olines holds every line projected as setup would (overlaps made them on the same lines).
-	segsIndexed bool
-	olines      []oline
-	parts       []part
-	segs        []segRef
-	segGrid     *grid
-	pws         []int // scratch: pathway indices (through)
-	vtxGrid     *grid
-	mem         []member
-	parent      []int
-	labeled     []bool
-	splits      [][]int // per part
-	shared      []bool  // per vertex member: another line has a vertex at exactly its position
-	entIDs      []string
-	entMem      []int
-	entOn       []bool
-	feet        []footprint
-	plans       []accessPlan // per building, input order
-	doors       [][]door     // per building, input order: every way in
+	// olines, when not nil, holds every line projected as setup would (overlaps made them on
+	// the same lines), and segGrid already lists every segment as setup numbers them.
+	olines  []oline
+	parts   []part
+	segs    []segRef
+	segGrid *grid
+	pws     []int // scratch: pathway indices (through)
+	vtxGrid *grid
+	mem     []member
+	parent  []int
+	labeled []bool
+	splits  [][]int // per part
+	shared  []bool  // per vertex member: another line has a vertex at exactly its position
+	entIDs  []string
+	entMem  []int
+	entOn   []bool
+	feet    []footprint
+	plans   []accessPlan // per building, input order
+	doors   [][]door     // per building, input order: every way in
 
 	entries [][]entry // per part, kept junction positions
 	pieces  []piece
@@ -273,6 +272,7 @@ func finite(p orb.Point) bool {
 func (b *builder) validate() {
 	c := b.c
 	seen := make(map[string]bool)
+	var buf orb.LineString // a line's distinct positions
 	unique := func(src Source, id, kind string) {
 		if id == "" {
 			b.add(src, id, PropID, problemf(ErrMissingProperty, "missing; every %s needs a unique id", kind))
@@ -304,16 +304,12 @@ func (b *builder) validate() {
 			b.add(pw.Source, pw.ID, "geometry", problemf(ErrBadGeometry, "no lines"))
 		}
 		for _, ls := range pw.Lines {
-			distinct := 0
-			for i, p := range ls {
+			for _, p := range ls {
 				if !finite(p) {
 					b.add(pw.Source, pw.ID, "geometry", problemf(ErrBadGeometry, "coordinate is not a finite number"))
 				}
-				if i == 0 || p != ls[i-1] {
-					distinct++
-				}
 			}
-			if distinct < 2 {
+			if buf = dropRepeats(buf[:0], ls); len(buf) < 2 {
 				b.add(pw.Source, pw.ID, "geometry", problemf(ErrBadGeometry, "want a line of at least two distinct positions"))
 			}
 		}
@@ -380,34 +376,21 @@ func (b *builder) setup() {
 	var stack [][2]int // markKept's scratch
 	for pi, pw := range c.Pathways {
 		for k, src := range pw.Lines {
-			var pt part
-			if b.segsIndexed { // overlaps made this line, the same way
+			pt := part{pw: pi, k: k, v0: len(b.mem), s0: len(b.segs)}
+			if b.olines != nil { // overlaps made this line, the same way, and indexed it
 				l := &b.olines[len(b.parts)]
-				pt = part{pw: pi, k: k, ll: l.ll, xy: l.xy, cum: l.cum, v0: len(b.mem), s0: len(b.segs)}
+				pt.ll, pt.xy, pt.cum = l.ll, l.xy, l.cum
 			} else {
-				ls := make(orb.LineString, 0, len(src))
-				for _, p := range src {
-					if len(ls) == 0 || ls[len(ls)-1] != p {
-						ls = append(ls, p)
-					}
+				pt.ll, pt.xy, pt.cum = b.projectLine(src)
+				for i := 1; i < len(pt.xy); i++ {
+					b.segGrid.addSeg(pt.s0+i-1, pt.xy[i-1], pt.xy[i])
 				}
-				pt = part{pw: pi, k: k, ll: ls, xy: make([]vec, len(ls)), cum: make([]float64, len(ls)),
-					v0: len(b.mem), s0: len(b.segs)}
 			}
 			ls := pt.ll
 			for i, p := range ls {
-				if !b.segsIndexed {
-					pt.xy[i] = b.proj.xy(p)
-					if i > 0 {
-						pt.cum[i] = pt.cum[i-1] + pt.xy[i].dist(pt.xy[i-1])
-					}
-				}
 				b.newMember(member{part: len(b.parts), seg: i, ll: p, xy: pt.xy[i], kind: memVertex}, false)
 				b.vtxGrid.addPoint(pt.v0+i, pt.xy[i])
 				if i > 0 {
-					if !b.segsIndexed {
-						b.segGrid.addSeg(len(b.segs), pt.xy[i-1], pt.xy[i])
-					}
 					b.segs = append(b.segs, segRef{part: len(b.parts), i: i - 1})
 				}
 			}
@@ -428,6 +411,21 @@ func (b *builder) setup() {
 	for i, bl := range c.Buildings {
 		b.feet[i] = newFootprint(b.proj, bl.Footprint)
 	}
+}
+
+// projectLine is line src with its repeated positions dropped (dropRepeats), on the local
+// projection, with the projected length from its first position to each, in metres: how
+// setup and overlaps both draw a line.
+func (b *builder) projectLine(src orb.LineString) (ll orb.LineString, xy []vec, cum []float64) {
+	ll = dropRepeats(make(orb.LineString, 0, len(src)), src)
+	xy, cum = make([]vec, len(ll)), make([]float64, len(ll))
+	for i, p := range ll {
+		xy[i] = b.proj.xy(p)
+		if i > 0 {
+			cum[i] = cum[i-1] + xy[i].dist(xy[i-1])
+		}
+	}
+	return ll, xy, cum
 }
 
 func (b *builder) newMember(m member, labeled bool) int {

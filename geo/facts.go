@@ -226,15 +226,40 @@ const straightOnDeg = 30
 // between in a structure.
 const maxBendDeg = 90
 
-// sameDucts reports whether spans a and b carry the same ducts, as far as the campus says:
-// the same pathway type and status, the same spare ducts and duct size, and no two different
-// shared-risk groups given (a group left out is the pathway's own id, which says nothing).
-// Two such pathways meeting end to end are one duct drawn in two features, as a facilities
-// GIS splits a pathway where another joins it (common practice, no published source).
-func sameDucts(a, b *Span) bool {
-	given := func(s *Span) bool { return s.Group != s.PathwayID }
-	return a.Type == b.Type && a.Status == b.Status && a.SpareDucts == b.SpareDucts && a.DuctMM == b.DuctMM &&
-		(a.Group == b.Group || !given(a) || !given(b))
+// ductFacts is what a pathway, or a span of one, says of its ducts: the facts sameDucts
+// compares.
+type ductFacts struct {
+	typ, status string
+	spare       int
+	ductMM      float64
+	group, own  string // the shared-risk group and the pathway's own id (its group when none is given)
+}
+
+func (p *Pathway) ductFacts() ductFacts {
+	return ductFacts{p.Type, p.Status, p.SpareDucts, p.DuctMM, p.Group, p.ID}
+}
+
+func (s *Span) ductFacts() ductFacts {
+	return ductFacts{s.Type, s.Status, s.SpareDucts, s.DuctMM, s.Group, s.PathwayID}
+}
+
+// givenGroup is the shared-risk group when one is given, else "".
+func (d ductFacts) givenGroup() string {
+	if d.group == d.own {
+		return ""
+	}
+	return d.group
+}
+
+// sameDucts reports whether a and b (two spans, or two pathways) carry the same ducts, as far
+// as the campus says: the same pathway type and status, the same spare ducts and duct size,
+// and no two different shared-risk groups given (a group left out is the pathway's own id,
+// which says nothing). Two such pathways meeting end to end are one duct drawn in two
+// features, as a facilities GIS splits a pathway where another joins it (common practice, no
+// published source).
+func sameDucts(a, b ductFacts) bool {
+	return a.typ == b.typ && a.status == b.status && a.spare == b.spare && a.ductMM == b.ductMM &&
+		(a.group == b.group || a.group == a.own || b.group == b.own)
 }
 
 // RunsAt groups spans, the spans ending at junction j as indices into Spans in index order,
@@ -300,7 +325,7 @@ func (n *Network) RunsAt(j string, spans []int) [][]int {
 		}
 		best, next := -1, math.Inf(1)
 		for b := range spans {
-			if b == a || carriedOn[b] || !sameDucts(span(a), span(b)) {
+			if b == a || carriedOn[b] || !sameDucts(span(a).ductFacts(), span(b).ductFacts()) {
 				continue
 			}
 			switch d := turn[a][b]; {
@@ -467,8 +492,9 @@ func built(n *Network, at map[string]int) {
 // duct, which only the campus's author can confirm. walled says the building is entered
 // where such pathways cross its wall (wallDoors), which the warning then says.
 //
-// It returns, in b.pws, the pathways (index) that run inside f for more than SnapM so.
-func (b *builder) through(id string, f *footprint, pws []int, partsOf [][2]int, walled bool) {
+// It returns the pathways (index, ascending) that run inside f for more than SnapM so, in
+// b.pws's storage: good until the next call.
+func (b *builder) through(id string, f *footprint, pws []int, partsOf [][2]int, walled bool) []int {
 	b.pws = b.pws[:0]
 	for _, pw := range pws {
 		p := &b.c.Pathways[pw]
@@ -504,7 +530,7 @@ func (b *builder) through(id string, f *footprint, pws []int, partsOf [][2]int, 
 			"existing pathway %q runs %.1f m inside the footprint of building %q, not only to its wall: routes along it pass beneath the building, and those metres count as outside plant;%s check that it runs there, or draw it around the building, or to the wall where it enters",
 			p.ID, inM, id, entered)})
 	}
-	b.pws = passing
+	return passing
 }
 
 // passedM is the projected length of part p inside footprint f, less the stretches from an
@@ -562,6 +588,27 @@ func (b *builder) transit(n *Network) {
 		alongM   float64 // where the span enters the footprint, from its From end
 	}
 	beneath := make(map[int][]under)
+	// Each duct or buried span's line on the local projection, with its bounding box,
+	// projected the first time a building it may pass beneath asks for it (by span index).
+	type spanXY struct {
+		xy     []vec
+		lo, hi vec
+	}
+	spanXYs := make(map[int]*spanXY)
+	xyOf := func(si int) *spanXY {
+		s := spanXYs[si]
+		if s == nil {
+			line := n.Spans[si].Line
+			s = &spanXY{xy: make([]vec, len(line)), lo: vec{math.Inf(1), math.Inf(1)}, hi: vec{math.Inf(-1), math.Inf(-1)}}
+			spanXYs[si] = s
+			for i, p := range line {
+				s.xy[i] = b.proj.xy(p)
+				s.lo = vec{math.Min(s.lo.x, s.xy[i].x), math.Min(s.lo.y, s.xy[i].y)}
+				s.hi = vec{math.Max(s.hi.x, s.xy[i].x), math.Max(s.hi.y, s.xy[i].y)}
+			}
+		}
+		return s
+	}
 	for bi, bl := range b.c.Buildings {
 		t := Transit{Building: bl.ID, Marked: bl.Transit}
 		f := &b.feet[bi]
@@ -578,10 +625,14 @@ func (b *builder) transit(n *Network) {
 					t.Interior = append(t.Interior, b.c.Pathways[pw].ID)
 				}
 			}
-			b.through(bl.ID, f, pws, partsOf, b.walled[bi])
-			for _, pw := range b.pws { // a span passes beneath only where its pathway does
+			passing := b.through(bl.ID, f, pws, partsOf, b.walled[bi])
+			for _, pw := range passing { // a span passes beneath only where its pathway does
 				for _, si := range spansOf[b.c.Pathways[pw].ID] {
-					if at, ok := b.passesBeneath(f, n.Spans[si].Line); ok {
+					s := xyOf(si)
+					if boxesMiss(s.lo, s.hi, f.lo, f.hi) {
+						continue // nowhere near f: passesBeneath would find nothing
+					}
+					if at, ok := b.passesBeneath(f, s.xy); ok {
 						beneath[si] = append(beneath[si], under{bl.ID, at})
 					}
 				}
@@ -611,17 +662,13 @@ func (b *builder) transit(n *Network) {
 	}
 }
 
-// passesBeneath reports whether line (a span's, lon/lat) runs across footprint f for more
-// than SnapM (projected) in stretches that begin and end at its boundary, not at an end of the
-// line inside it, and where along the line (projected metres from its first point) the first
-// such stretch begins.
-func (b *builder) passesBeneath(f *footprint, line orb.LineString) (float64, bool) {
-	if len(line) < 2 {
+// passesBeneath reports whether line xy (a span's, on the local projection) runs across
+// footprint f for more than SnapM (projected) in stretches that begin and end at its
+// boundary, not at an end of the line inside it, and where along the line (projected metres
+// from its first point) the first such stretch begins.
+func (b *builder) passesBeneath(f *footprint, xy []vec) (float64, bool) {
+	if len(xy) < 2 {
 		return 0, false
-	}
-	xy := make([]vec, len(line))
-	for i, p := range line {
-		xy[i] = b.proj.xy(p)
 	}
 	deep := func(p vec) bool { // an end more than SnapM inside the footprint
 		if !f.contains(p) {
@@ -713,7 +760,7 @@ func (f *footprint) crossings(a, c vec, ts []float64) []float64 {
 // insideParts calls each, in order along segment ac, with the fractions t0 < t1 of every
 // stretch of it inside footprint f (between two crossings of its rings); ts is scratch.
 func (f *footprint) insideParts(a, c vec, ts []float64, each func(t0, t1 float64)) {
-	if math.Max(a.x, c.x) < f.lo.x || math.Min(a.x, c.x) > f.hi.x || math.Max(a.y, c.y) < f.lo.y || math.Min(a.y, c.y) > f.hi.y {
+	if boxesMiss(vec{math.Min(a.x, c.x), math.Min(a.y, c.y)}, vec{math.Max(a.x, c.x), math.Max(a.y, c.y)}, f.lo, f.hi) {
 		return
 	}
 	ts = f.crossings(a, c, append(ts[:0], 0, 1))
@@ -831,15 +878,12 @@ func (b *builder) structureMisses(n *Network) []NearMiss {
 	}
 	r := structureMissFactor * b.snap
 	g := newGrid(b.cellM)
-	xys := make([]vec, len(b.c.Structures))
-	for si, st := range b.c.Structures {
-		xys[si] = b.proj.xy(st.Point)
-		g.addPoint(si, xys[si])
-	}
+	xys := make([]vec, len(b.c.Structures))  // each structure's point, as joinStructures projected it
 	root := make([]int, len(b.c.Structures)) // the structure's junction root
 	for i, m := range b.mem {
 		if m.kind == memStructure {
-			root[m.ref] = b.find(i)
+			xys[m.ref], root[m.ref] = m.xy, b.find(i)
+			g.addPoint(m.ref, m.xy)
 		}
 	}
 	var out []NearMiss

@@ -7,7 +7,6 @@ import (
 	"slices"
 
 	"github.com/paulmach/orb"
-	"github.com/paulmach/orb/planar"
 )
 
 // SameFootprintShare is the share of the smaller of two building footprints that must lie
@@ -79,10 +78,10 @@ func overlapWarning(a, b Building) (warnRec, bool) {
 	c := ba.Union(bb).Center()
 	loc := NewLocal(c[0], c[1])
 	pa, pb := localFootprint(loc, a.Footprint), localFootprint(loc, b.Footprint)
-	areaA, areaB := footprintAreaM2(pa), footprintAreaM2(pb)
-	small, large, smallB, largeB := pa, pb, a, b
+	areaA, areaB := pa.areaM2(), pb.areaM2()
+	small, large, smallB, largeB := &pa, &pb, a, b
 	if areaB <= areaA || math.Abs(areaA-areaB) <= 1e-9*areaA { // of two equal, b, the later id
-		small, large, smallB, largeB = pb, pa, b, a
+		small, large, smallB, largeB = &pb, &pa, b, a
 	}
 	smallArea := min(areaA, areaB)
 	if !(smallArea > 0) {
@@ -90,23 +89,22 @@ func overlapWarning(a, b Building) (warnRec, bool) {
 	}
 	// The overlap lies in both bounding boxes: a box overlap below the share rules it out
 	// (two buildings that share a wall), before any point is tested.
-	sb, lb := small.Bound(), large.Bound()
-	wx := min(sb.Max[0], lb.Max[0]) - max(sb.Min[0], lb.Min[0])
-	wy := min(sb.Max[1], lb.Max[1]) - max(sb.Min[1], lb.Min[1])
+	wx := min(small.hi.x, large.hi.x) - max(small.lo.x, large.lo.x)
+	wy := min(small.hi.y, large.hi.y) - max(small.lo.y, large.lo.y)
 	if wx <= 0 || wy <= 0 || wx*wy < SameFootprintShare*smallArea {
 		return warnRec{}, false
 	}
 	inSmall, inBoth := 0, 0
-	dx := (sb.Max[0] - sb.Min[0]) / footprintSamples
-	dy := (sb.Max[1] - sb.Min[1]) / footprintSamples
+	dx := (small.hi.x - small.lo.x) / footprintSamples
+	dy := (small.hi.y - small.lo.y) / footprintSamples
 	for ix := range footprintSamples {
 		for iy := range footprintSamples {
-			p := orb.Point{sb.Min[0] + (float64(ix)+0.5)*dx, sb.Min[1] + (float64(iy)+0.5)*dy}
-			if !evenOdd(small, p) {
+			p := vec{small.lo.x + (float64(ix)+0.5)*dx, small.lo.y + (float64(iy)+0.5)*dy}
+			if !small.evenOdd(p) {
 				continue
 			}
 			inSmall++
-			if lb.Contains(p) && evenOdd(large, p) {
+			if large.inBox(p) && large.evenOdd(p) {
 				inBoth++
 			}
 		}
@@ -132,47 +130,57 @@ func sameText(what string, other Building) string {
 		what, other.ID, other.Source)
 }
 
-// evenOdd reports whether p is inside the footprint mp by the even-odd rule over all its
-// rings (a hole's points are outside, as are those of a ring's self-crossing's second lap).
-// Points on a ring count either way: the share sampled is of areas, not of edges.
-func evenOdd(mp orb.MultiPolygon, p orb.Point) bool {
-	in := false
-	for _, poly := range mp {
-		for _, r := range poly {
-			for i, j := 0, len(r)-1; i < len(r); j, i = i, i+1 {
-				a, b := r[i], r[j]
-				if (a[1] > p[1]) != (b[1] > p[1]) && p[0] < a[0]+(p[1]-a[1])*(b[0]-a[0])/(b[1]-a[1]) {
-					in = !in
+// localFoot is a footprint in metres of a Local, for sameFootprints.
+type localFoot struct {
+	rings  [][][]vec // per polygon, per ring (ring 0 outer)
+	lo, hi vec       // bounding box of the outer rings
+}
+
+// localFootprint is footprint mp in metres of loc.
+func localFootprint(loc Local, mp orb.MultiPolygon) localFoot {
+	f := localFoot{rings: make([][][]vec, len(mp)), lo: vec{math.Inf(1), math.Inf(1)}, hi: vec{math.Inf(-1), math.Inf(-1)}}
+	for i, poly := range mp {
+		f.rings[i] = make([][]vec, len(poly))
+		for j, r := range poly {
+			q := make([]vec, len(r))
+			for k, p := range r {
+				q[k].x, q[k].y = loc.XY(p[0], p[1])
+				if j == 0 {
+					f.lo = vec{math.Min(f.lo.x, q[k].x), math.Min(f.lo.y, q[k].y)}
+					f.hi = vec{math.Max(f.hi.x, q[k].x), math.Max(f.hi.y, q[k].y)}
 				}
 			}
+			f.rings[i][j] = q
+		}
+	}
+	return f
+}
+
+// inBox reports whether p lies in f's bounding box, edges included.
+func (f *localFoot) inBox(p vec) bool {
+	return f.lo.x <= p.x && p.x <= f.hi.x && f.lo.y <= p.y && p.y <= f.hi.y
+}
+
+// evenOdd reports whether p is inside f by the even-odd rule over all its rings (a hole's
+// points are outside, as are those of a ring's self-crossing's second lap). Points on a ring
+// count either way: the share sampled is of areas, not of edges.
+func (f *localFoot) evenOdd(p vec) bool {
+	in := false
+	for _, poly := range f.rings {
+		for _, r := range poly {
+			in = in != inRing(p, r)
 		}
 	}
 	return in
 }
 
-// localFootprint is a footprint in metres of loc.
-func localFootprint(loc Local, mp orb.MultiPolygon) orb.MultiPolygon {
-	out := make(orb.MultiPolygon, len(mp))
-	for i, poly := range mp {
-		out[i] = make(orb.Polygon, len(poly))
-		for j, r := range poly {
-			q := make(orb.Ring, len(r))
-			for k, p := range r {
-				q[k][0], q[k][1] = loc.XY(p[0], p[1])
-			}
-			out[i][j] = q
-		}
-	}
-	return out
-}
-
-// footprintAreaM2 is the area of a footprint in metres, in square metres: each polygon's
-// outer ring less its holes, whatever way they wind.
-func footprintAreaM2(mp orb.MultiPolygon) float64 {
+// areaM2 is f's area, in square metres: each polygon's outer ring less its holes, whatever
+// way they wind.
+func (f *localFoot) areaM2() float64 {
 	total := 0.0
-	for _, poly := range mp {
+	for _, poly := range f.rings {
 		for j, r := range poly {
-			a := math.Abs(planar.Area(r))
+			a := math.Abs(ringArea(r))
 			if j > 0 {
 				a = -a
 			}
@@ -180,4 +188,18 @@ func footprintAreaM2(mp orb.MultiPolygon) float64 {
 		}
 	}
 	return total
+}
+
+// ringArea is the signed area of ring r (closed, its first position repeated last), positive
+// counterclockwise: the shoelace sum taken about r[0], as orb/planar's Area takes it, to keep
+// the rounding small.
+func ringArea(r []vec) float64 {
+	if len(r) == 0 {
+		return 0
+	}
+	sum := 0.0
+	for i := 1; i < len(r)-1; i++ {
+		sum += r[i].sub(r[0]).cross(r[i+1].sub(r[0]))
+	}
+	return sum / 2
 }

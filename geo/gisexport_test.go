@@ -380,17 +380,21 @@ func TestSameFootprintsCapped(t *testing.T) {
 
 // TestEvenOddMatchesPlanar holds sameFootprints' point-in-footprint test to orb/planar's
 // MultiPolygonContains (the reference library) on random points around a footprint of two
-// polygons, one with a hole, away from their edges.
+// polygons, one with a hole, away from their edges, and its area to planar.Area.
 func TestEvenOddMatchesPlanar(t *testing.T) {
 	t.Parallel()
 	mp := orb.MultiPolygon{
 		{{{0, 0}, {10, 0}, {10, 10}, {5, 14}, {0, 10}, {0, 0}}, {{3, 3}, {3, 6}, {6, 6}, {6, 3}, {3, 3}}},
 		{{{20, 0}, {30, 5}, {20, 10}, {24, 5}, {20, 0}}},
 	}
+	f := localFootprint(Local{MPerDegX: 1, MPerDegY: 1}, mp) // metres = degrees: the same numbers
+	if got, want := f.areaM2(), planar.Area(mp); got != want {
+		t.Errorf("area: got %v, want %v", got, want)
+	}
 	r := rand.New(rand.NewPCG(3, 4))
 	for range 20000 {
 		p := orb.Point{r.Float64()*40 - 5, r.Float64()*20 - 5}
-		if got, want := evenOdd(mp, p), planar.MultiPolygonContains(mp, p); got != want {
+		if got, want := f.evenOdd(vec{p[0], p[1]}), planar.MultiPolygonContains(mp, p); got != want {
 			t.Fatalf("point %v: got %v, want %v", p, got, want)
 		}
 	}

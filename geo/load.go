@@ -1440,16 +1440,22 @@ func line(v any, what string) (orb.LineString, error) {
 // distinctLine is the rule for a line of every source: repeated consecutive positions are
 // dropped, and at least two distinct ones must remain.
 func distinctLine(pts []orb.Point, what string) (orb.LineString, error) {
-	ls := make(orb.LineString, 0, len(pts))
-	for _, p := range pts {
-		if len(ls) == 0 || ls[len(ls)-1] != p {
-			ls = append(ls, p)
-		}
-	}
+	ls := dropRepeats(make(orb.LineString, 0, len(pts)), pts)
 	if len(ls) < 2 {
 		return nil, problemf(ErrBadGeometry, "%swant a line of at least two distinct positions, got %d position(s), %d distinct", what, len(pts), len(ls))
 	}
 	return ls, nil
+}
+
+// dropRepeats appends the positions of pts to dst, each repeated in a row given once: how
+// every line is read (a position repeated draws nothing).
+func dropRepeats(dst orb.LineString, pts []orb.Point) orb.LineString {
+	for _, p := range pts {
+		if len(dst) == 0 || dst[len(dst)-1] != p {
+			dst = append(dst, p)
+		}
+	}
+	return dst
 }
 
 // closedRing is the rule for a polygon's ring of every source: at least four positions, the

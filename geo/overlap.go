@@ -67,25 +67,13 @@ type olPair struct {
 	st   []stretch
 }
 
-// sameDuctsPW is sameDucts for two pathways: the same type and status, spare ducts and duct
-// size, and no two different shared-risk groups given.
-func sameDuctsPW(a, b *Pathway) bool {
-	return a.Type == b.Type && a.Status == b.Status && a.SpareDucts == b.SpareDucts && a.DuctMM == b.DuctMM &&
-		(a.Group == b.Group || a.Group == a.ID || b.Group == b.ID)
-}
-
 // sameProps reports whether pathways a and b say the same of their ducts in every property but
-// their ids.
+// their ids: they carry the same ducts (sameDucts), in the same setting, and give the same
+// shared-risk group or none.
 func sameProps(a, b *Pathway) bool {
-	group := func(p *Pathway) string {
-		if p.Group == p.ID {
-			return ""
-		}
-		return p.Group
-	}
-	return a.Type == b.Type && a.Status == b.Status && a.SpareDucts == b.SpareDucts && a.DuctMM == b.DuctMM &&
-		a.EMI == b.EMI && a.Surface == b.Surface && a.Method == b.Method && a.MethodSet == b.MethodSet &&
-		a.Plenum == b.Plenum && group(a) == group(b)
+	da, db := a.ductFacts(), b.ductFacts()
+	return sameDucts(da, db) && a.EMI == b.EMI && a.Surface == b.Surface && a.Method == b.Method &&
+		a.MethodSet == b.MethodSet && a.Plenum == b.Plenum && da.givenGroup() == db.givenGroup()
 }
 
 // shape is a pathway's lines in a form that does not depend on the direction each is drawn
@@ -94,12 +82,7 @@ func sameProps(a, b *Pathway) bool {
 func shape(pw *Pathway) []orb.LineString {
 	lines := make([]orb.LineString, 0, len(pw.Lines))
 	for _, ls := range pw.Lines {
-		var pts orb.LineString
-		for _, p := range ls {
-			if len(pts) == 0 || pts[len(pts)-1] != p {
-				pts = append(pts, p)
-			}
-		}
+		pts := dropRepeats(make(orb.LineString, 0, len(ls)), ls)
 		if n := len(pts); n > 0 && lessLL(pts[n-1], pts[0]) {
 			slices.Reverse(pts)
 		}
@@ -132,15 +115,13 @@ type shapeHint struct {
 	lines, npts int
 }
 
-func hintOf(pw *Pathway) shapeHint {
+// hintOf is pw's shapeHint; buf is scratch, returned for the next call.
+func hintOf(pw *Pathway, buf orb.LineString) (shapeHint, orb.LineString) {
 	h := shapeHint{lines: len(pw.Lines)}
 	first := true
 	for _, ls := range pw.Lines {
-		for i, p := range ls {
-			if i == 0 || p != ls[i-1] {
-				h.npts++
-			}
-		}
+		buf = dropRepeats(buf[:0], ls)
+		h.npts += len(buf)
 		if len(ls) == 0 {
 			continue
 		}
@@ -152,7 +133,7 @@ func hintOf(pw *Pathway) shapeHint {
 			h.lo, h.hi, first = lo, hi, false
 		}
 	}
-	return h
+	return h, buf
 }
 
 // overlaps looks for pathways drawn on top of one another before noding, on a copy of the
@@ -160,7 +141,7 @@ func hintOf(pw *Pathway) shapeHint {
 //   - a pathway that is another drawn again (the same lines, in any direction and order, and
 //     the same properties but its id) is dropped, with a Warning on it naming the one kept
 //     (the lower id): a segment exported twice is one duct, not two;
-//   - two pathways that carry the same ducts (sameDuctsPW), each ending on the other, drawn
+//   - two pathways that carry the same ducts (sameDucts), each ending on the other, drawn
 //     along each other for more than SnapM and at most overlapJoinM are cut back to meet at
 //     one point (a structure within SnapM of the overlap, else its middle), with a Warning:
 //     one run drawn in pieces that overshoot their join;
@@ -187,22 +168,9 @@ func (b *builder) overlaps() {
 	lines := make([]oline, 0, nl)
 	for pi := range c.Pathways {
 		for k, src := range c.Pathways[pi].Lines {
-			l := oline{pw: pi, k: k, ll: make(orb.LineString, 0, len(src))}
-			for _, p := range src {
-				if len(l.ll) == 0 || l.ll[len(l.ll)-1] != p {
-					l.ll = append(l.ll, p)
-				}
-			}
-			l.xy, l.cum = make([]vec, len(l.ll)), make([]float64, len(l.ll))
-			for i, p := range l.ll {
-				l.xy[i] = b.proj.xy(p)
-				if i > 0 {
-					l.cum[i] = l.cum[i-1] + l.xy[i].dist(l.xy[i-1])
-				}
-			}
-			if len(l.ll) >= 2 {
-				lines = append(lines, l)
-			}
+			l := oline{pw: pi, k: k}
+			l.ll, l.xy, l.cum = b.projectLine(src) // two distinct positions at least (validate)
+			lines = append(lines, l)
 		}
 	}
 	type segID struct{ line, i int }
@@ -283,7 +251,7 @@ func (b *builder) overlaps() {
 		}
 		pa, pb := &c.Pathways[la.pw], &c.Pathways[lb.pw] // pa.ID < pb.ID
 		// Up to overlapJoinM to the millimetre: an overshoot drawn as 5 m is 5 m.
-		if len(merged) == 1 && total <= overlapJoinM+1e-3 && sameDuctsPW(pa, pb) {
+		if len(merged) == 1 && total <= overlapJoinM+1e-3 && sameDucts(pa.ductFacts(), pb.ductFacts()) {
 			m := merged[0]
 			// Where the stretch's ends lie along lb.
 			_, x0 := la.at(m.a0)
@@ -325,7 +293,7 @@ func (b *builder) overlaps() {
 	if len(trims) == 0 {
 		if !dropped {
 			// The lines are the parts setup makes, in its order: its segment index is this one.
-			b.segGrid, b.segsIndexed, b.olines = g, true, lines
+			b.segGrid, b.olines = g, lines
 		}
 		return
 	}
@@ -457,8 +425,10 @@ func (b *builder) dropDuplicates() bool {
 	c := b.c
 	// Only pathways with one hint can be one drawing.
 	first := make(map[shapeHint][]int)
+	var buf orb.LineString
 	for i := range c.Pathways {
-		k := hintOf(&c.Pathways[i])
+		var k shapeHint
+		k, buf = hintOf(&c.Pathways[i], buf)
 		first[k] = append(first[k], i)
 	}
 	drop := make(map[int]bool)

@@ -101,6 +101,12 @@ func newFootprint(p projector, mp orb.MultiPolygon) footprint {
 
 func (f *footprint) empty() bool { return len(f.rings) == 0 }
 
+// boxesMiss reports whether the boxes lo0–hi0 and lo1–hi1 share no point (boxes that touch
+// share their edge).
+func boxesMiss(lo0, hi0, lo1, hi1 vec) bool {
+	return hi0.x < lo1.x || lo0.x > hi1.x || hi0.y < lo1.y || lo0.y > hi1.y
+}
+
 func inRing(p vec, r []vec) bool {
 	in := false
 	for i, j := 0, len(r)-1; i < len(r); j, i = i, i+1 {
