@@ -31,13 +31,18 @@ const (
 // bomUnit is a BOM line's unit, quantity and unit price at the output edge, and the
 // decimals the price is written with: metres become feet when imperial, the price per foot
 // then being perFoot's (the extended price, the metric line's in whole cents, over the feet
-// shown, to as many decimals as make the row extend). The extended price never changes.
-func bomUnit(opt WriteOptions, l media.BOMLine) (unit string, qty, unitPrice float64, priceDecimals int) {
+// shown, to as many decimals as make the row extend). The extended price never changes. A
+// cable line's feet are the pieces the cable schedule cuts for it, as written (cut, the
+// tenths of a foot of cutOf), so that they add up to the line as whole metres do in metric.
+func bomUnit(opt WriteOptions, l media.BOMLine, cut cableCut) (unit string, qty, unitPrice float64, priceDecimals int) {
 	unit, qty, unitPrice, priceDecimals = l.Unit, l.Quantity, float64(l.UnitCents)/100, 2
 	if opt.imperial() && l.Unit == media.UnitM {
 		// The metres summed, converted, then rounded (Units.Rounded): not the billed 0.1 m
 		// converted, which can show 0.1 ft off what the terminal and the report show.
 		ft := UnitsOf(opt).Rounded(l.Summed, qtyDecimals("ft"))
+		if tenths, ok := cut[l.Price]; ok && l.Price.Item == media.PriceCable {
+			ft = float64(tenths) / 10
+		}
 		unitPrice, priceDecimals = perFoot(l.ExtendedCents, ft, unitPrice*install.MPerFt)
 		return "ft", ft, unitPrice, priceDecimals
 	}
@@ -137,8 +142,9 @@ func bomCSV(out io.Writer, r *route.Result, opt WriteOptions) error {
 	cur := strings.ToLower(b.Currency)
 	w := escape.NewWriter(out)
 	w.Write([]string{"category", "item", "unit", "quantity", "unit_price_" + cur, "extended_" + cur, "from", "price_key"})
+	cut := cutOf(opt, r)
 	for _, l := range b.Lines {
-		unit, qty, price, dp := bomUnit(opt, l)
+		unit, qty, price, dp := bomUnit(opt, l, cut)
 		q, p := strconv.FormatFloat(qty, 'f', qtyDecimals(unit), 64), media.FormatCents(l.UnitCents)
 		if unit == "ft" {
 			p = strconv.FormatFloat(price, 'f', dp, 64)
@@ -287,9 +293,10 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 		}
 	}
 	catAbove, extAbove := fmt.Sprintf("$A$2:$A$%d", above), fmt.Sprintf("$F$2:$F$%d", above)
+	cut := cutOf(opt, r)
 	for i, l := range b.Lines {
 		row := i + 2
-		unit, qty, price, dp := bomUnit(opt, l)
+		unit, qty, price, dp := bomUnit(opt, l, cut)
 		dq := qtyDecimals(unit)
 		unitPrice := workbook.Number(price, dp)
 		if l.PercentOf != nil {
@@ -383,7 +390,7 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 	num("legs", float64(s.Legs), 0, "")
 	num("infeasible legs", float64(s.Infeasible), 0, "")
 	num("route", u.Rounded(lengths.RouteM, 1), 1, u.Length)
-	num("cable bought", u.Rounded(lengths.CableM, 1), 1, u.Length)
+	num("cable bought", cutOf(opt, r).all(), 1, u.Length)
 	num("new trench", u.Rounded(lengths.NewM, 1), 1, u.Length)
 	num("pull sections", float64(s.PullSections), 0, "")
 	num("added pull points", float64(s.AddedPullPoints), 0, "")

@@ -535,16 +535,17 @@ func newWorkM(e *estimate.Estimate) float64 {
 }
 
 // Totals are a plan's length totals, unrounded: the route of its feasible legs, the cable
-// bought for every leg (waste included) and the new civil work (Construction.NewM).
-// Summarize rounds them to 0.1 m for summary.json; the outputs for people show these,
-// converted and then rounded (Units.Rounded), so that a total in feet is the metres' own.
+// bought for every leg (waste included: the pieces the schedule cuts, cableCut, whole metres
+// that add up to the bill's cable lines) and the new civil work (Construction.NewM).
+// Summarize rounds them to 0.1 m for summary.json; the outputs for people show the route and
+// new work converted and then rounded (Units.Rounded), so that a total in feet is the metres'
+// own, and the cable bought as cableCut in their unit, the pieces as written added up.
 type Totals struct{ RouteM, CableM, NewM float64 }
 
 // TotalsOf adds up the totals of r.
 func TotalsOf(r *route.Result) Totals {
-	t := Totals{NewM: newWorkM(r.Estimate)}
+	t := Totals{NewM: newWorkM(r.Estimate), CableM: cutOf(WriteOptions{}, r).all()}
 	for _, l := range r.Legs {
-		t.CableM += l.Cable.LengthM * float64(l.Cable.Cables)
 		if l.Feasible {
 			t.RouteM += l.RouteM
 		}
@@ -748,21 +749,15 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 		}
 		fmt.Fprintf(w, "links by medium: %s\n", strings.Join(mix, ", "))
 	}
-	byCons := map[string]float64{}
-	for _, l := range r.Legs {
-		if l.Feasible {
-			byCons[l.Medium+" "+l.Construction] += l.Cable.OutsideLengthM() * float64(l.Cable.Cables)
-			if l.Inside != "" {
-				byCons[l.Medium+" "+l.Inside] += l.Cable.InsideLengthM * float64(l.Cable.InsideCables)
-			}
-		}
-	}
-	if len(byCons) > 0 {
+	// The cable the schedule cuts, as the bill buys it (cableCut), in the run's unit.
+	cut := cutOf(opt, r)
+	if byCons := cut.byConstruction(); len(byCons) > 0 {
+		shown := func(x float64) string { return strconv.FormatFloat(x, 'f', 1, 64) + " " + u.Length }
 		var parts []string
 		for _, k := range slices.Sorted(maps.Keys(byCons)) {
-			parts = append(parts, t(k)+" "+length(byCons[k]))
+			parts = append(parts, t(k)+" "+shown(byCons[k]))
 		}
-		fmt.Fprintf(w, "cable bought: %s (%s in all, %s)\n", strings.Join(parts, ", "), length(tot.CableM), Counted(s.MidSpanSplices, "mid-span splice", "mid-span splices"))
+		fmt.Fprintf(w, "cable bought: %s (%s in all, %s)\n", strings.Join(parts, ", "), shown(cut.all()), Counted(s.MidSpanSplices, "mid-span splice", "mid-span splices"))
 	}
 	if line := diverseLine(s); line != "" {
 		fmt.Fprintln(w, line)

@@ -1,7 +1,9 @@
 package output
 
 import (
+	"bytes"
 	"context"
+	"fmt"
 	"maps"
 	"math"
 	"slices"
@@ -10,6 +12,7 @@ import (
 	"testing"
 
 	"spanwright/media"
+	"spanwright/route"
 	"spanwright/route/internal/testplan"
 	"spanwright/route/internal/testsite"
 	"spanwright/route/routing"
@@ -104,32 +107,61 @@ func TestScheduleColumns(t *testing.T) {
 }
 
 // TestSchedulePiecesAddUpToBill holds links.csv's cable schedule to the bill: for every cable
-// construction and size, the pieces the schedule cuts (cables × cut_length_m of the leg's own
-// construction; with an entrance transition, inside_cables × (inside_cut_to_m +
-// inside_cut_from_m) of the inside one) add up to the bill's cable line, whose sources are
-// exactly the legs the schedule cuts such pieces for, so that a buyer
+// construction and size, the pieces the schedule cuts (cables × cut_length of the leg's own
+// construction; with an entrance transition, inside_cables × (inside_cut_to +
+// inside_cut_from) of the inside one) add up to the quantity of the bill's cable line in
+// bom.csv, exactly (to its last decimal), in metres and under --units imperial in feet, and
+// the line's sources are exactly the legs the schedule cuts such pieces for, so that a buyer
 // ordering reels by the schedule buys what the bill prices (tester 6's finding 4: a leg of
 // osp-loose-tube spliced to ofnr-riser at both entrances gave one cut length for three
-// pieces). The demo has such legs (TWR-OBS over the direct-buried B-OBS).
+// pieces; review 4 finding 9: in feet, the pieces converted one by one came 4.1 ft short of
+// the bill's riser line on 200 buildings). The demo has such legs (TWR-OBS over the
+// direct-buried B-OBS), and so has the generated campus of 200 buildings (campusfiles, seed 1).
 func TestSchedulePiecesAddUpToBill(t *testing.T) {
 	t.Parallel()
-	r := testplan.DemoResult(t)
-	files, err := Files(context.Background(), r, WriteOptions{SkipWorkbook: true, SkipGeoPackage: true})
+	for _, tc := range []struct {
+		name  string
+		solve func(testing.TB) *route.Result
+	}{
+		{"demo", testplan.DemoResult},
+		{"200 buildings", func(tb testing.TB) *route.Result {
+			s, p := testplan.CampusSite(tb, 200)
+			return testplan.SolvePlan(tb, s, p)
+		}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			t.Parallel()
+			r := tc.solve(t)
+			for _, opt := range []WriteOptions{{SkipWorkbook: true, SkipGeoPackage: true}, {Units: UnitsImperial, SkipWorkbook: true, SkipGeoPackage: true}} {
+				piecesAddUpToBill(t, r, opt)
+			}
+		})
+	}
+}
+
+// piecesAddUpToBill is TestSchedulePiecesAddUpToBill for one plan in the units of opt.
+func piecesAddUpToBill(t *testing.T, r *route.Result, opt WriteOptions) {
+	t.Helper()
+	files, err := Files(context.Background(), r, opt)
 	if err != nil {
 		t.Fatal(err)
 	}
+	u := UnitsOf(opt).Length
 	rows := testplan.ReadCSV(t, testplan.FileOf(t, files, "links.csv"))
 	col := func(name string) int { return slices.Index(rows[0], name) }
-	cables, cut, inCables, inTo, inFrom := col("cables"), col("cut_length_m"), col("inside_cables"), col("inside_cut_to_m"), col("inside_cut_from_m")
-	f := func(s string) float64 { x, _ := strconv.ParseFloat(s, 64); return x }
-	cut1 := map[media.PriceKey]float64{}
-	byLeg := map[media.PriceKey]map[string]float64{} // the pieces of each leg, by the bill's "leg L/primary"
-	piece := func(k media.PriceKey, l *routing.Leg, m float64) {
-		cut1[k] += m
+	cables, cut, inCables, inTo, inFrom := col("cables"), col("cut_length_"+u), col("inside_cables"), col("inside_cut_to_"+u), col("inside_cut_from_"+u)
+	// Lengths in tenths of their unit, as integers: every piece and bill quantity is written
+	// to 0.1, so that the sums are exact.
+	tenths := func(s string) int64 { x, _ := strconv.ParseFloat(s, 64); return int64(math.Round(x * 10)) }
+	count := func(s string) int64 { n, _ := strconv.Atoi(s); return int64(n) }
+	cut1 := map[media.PriceKey]int64{}
+	byLeg := map[media.PriceKey]map[string]bool{} // the legs cut pieces of each key, by the bill's "leg L/primary"
+	piece := func(k media.PriceKey, l *routing.Leg, x int64) {
+		cut1[k] += x
 		if byLeg[k] == nil {
-			byLeg[k] = map[string]float64{}
+			byLeg[k] = map[string]bool{}
 		}
-		byLeg[k]["leg "+l.Label()] += m
+		byLeg[k]["leg "+l.Label()] = true
 	}
 	transitions := 0
 	for i, row := range rows[1:] {
@@ -137,35 +169,53 @@ func TestSchedulePiecesAddUpToBill(t *testing.T) {
 		if !l.Feasible {
 			continue
 		}
-		piece(media.PriceKey{Item: media.PriceCable, Medium: l.Medium, Construction: l.Construction, Count: l.Cable.Size.Count}, l, f(row[cables])*f(row[cut]))
+		piece(media.PriceKey{Item: media.PriceCable, Medium: l.Medium, Construction: l.Construction, Count: l.Cable.Size.Count}, l, count(row[cables])*tenths(row[cut]))
 		if l.Inside != "" {
 			transitions++
-			piece(media.PriceKey{Item: media.PriceCable, Medium: l.Medium, Construction: l.Inside, Count: l.Cable.InsideSize.Count}, l, f(row[inCables])*(f(row[inTo])+f(row[inFrom])))
+			piece(media.PriceKey{Item: media.PriceCable, Medium: l.Medium, Construction: l.Inside, Count: l.Cable.InsideSize.Count}, l, count(row[inCables])*(tenths(row[inTo])+tenths(row[inFrom])))
 		}
 	}
 	if transitions == 0 {
-		t.Fatal("the demo has no leg with an entrance transition: nothing to test")
+		t.Fatal("no leg with an entrance transition: nothing to test")
 	}
-	billed := map[media.PriceKey]float64{}
-	for _, ln := range r.Estimate.BOM.Lines {
-		if ln.Price.Item == media.PriceCable {
-			billed[ln.Price] += ln.Quantity
-			// The line's sources are the legs whose pieces are of its construction and size.
-			legs := slices.Sorted(maps.Keys(byLeg[ln.Price]))
-			if !slices.Equal(legs, ln.From) {
-				t.Errorf("%s: the bill's line comes from %q, the schedule cuts it for %q", ln.Item, ln.From, legs)
-			}
+	bom := testplan.ReadCSV(t, testplan.FileOf(t, files, "bom.csv"))
+	billed := map[media.PriceKey]int64{}
+	for i, ln := range r.Estimate.BOM.Lines {
+		if ln.Price.Item != media.PriceCable {
+			continue
+		}
+		if row := bom[i+1]; row[1] != ln.Item || row[2] != u {
+			t.Fatalf("bom.csv row %d: %q, want %s in %s", i+2, row, ln.Item, u)
+		} else {
+			billed[ln.Price] += tenths(row[3])
+		}
+		// The line's sources are the legs whose pieces are of its construction and size.
+		legs := slices.Sorted(maps.Keys(byLeg[ln.Price]))
+		if !slices.Equal(legs, ln.From) {
+			t.Errorf("%s: the bill's line comes from %q, the schedule cuts it for %q", ln.Item, ln.From, legs)
 		}
 	}
-	for k, m := range billed {
-		if math.Abs(cut1[k]-m) > 0.05 {
-			t.Errorf("%s: the schedule cuts %.1f m, the bill buys %.1f m", k, cut1[k], m)
+	for k, x := range billed {
+		if cut1[k] != x {
+			t.Errorf("%s: the schedule cuts %.1f %s, the bill buys %.1f %s", k, float64(cut1[k])/10, u, float64(x)/10, u)
 		}
 	}
-	for k, m := range cut1 {
-		if _, ok := billed[k]; !ok && m > 0 {
-			t.Errorf("%s: the schedule cuts %.1f m the bill does not buy", k, m)
+	for k, x := range cut1 {
+		if _, ok := billed[k]; !ok && x > 0 {
+			t.Errorf("%s: the schedule cuts %.1f %s the bill does not buy", k, float64(x)/10, u)
 		}
+	}
+	// The terminal's cable bought in all is the bill's cable lines added up.
+	var all int64
+	for _, x := range billed {
+		all += x
+	}
+	var out bytes.Buffer
+	if err := PrintSummary(&out, r, opt); err != nil {
+		t.Fatal(err)
+	}
+	if want := fmt.Sprintf("(%.1f %s in all, ", float64(all)/10, u); !strings.Contains(out.String(), want) {
+		t.Errorf("terminal: no %q in\n%s", want, out.String())
 	}
 }
 
