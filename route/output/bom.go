@@ -220,26 +220,29 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 	cur := b.Currency
 	wb := workbook.New()
 	sum := wb.AddSheet("summary", workbook.Column{Name: "figure"}, workbook.Column{Name: "value", Width: 22}, workbook.Column{Name: "unit"})
-	links := wb.AddSheet("links",
-		workbook.Column{Name: "link"}, workbook.Column{Name: "leg"}, workbook.Column{Name: "from"}, workbook.Column{Name: "to"},
-		workbook.Column{Name: "rate"}, workbook.Column{Name: "medium"}, workbook.Column{Name: "application"},
-		workbook.Column{Name: "construction"}, workbook.Column{Name: "strands"}, workbook.Column{Name: "cables"},
-		workbook.Column{Name: "cable OD", Unit: u.Diameter}, workbook.Column{Name: "route", Unit: u.Length},
-		workbook.Column{Name: "risers", Unit: u.Length}, workbook.Column{Name: "slack loops", Unit: u.Length},
-		workbook.Column{Name: "structures passed"}, workbook.Column{Name: "cable bought", Unit: u.Length},
-		workbook.Column{Name: "reels"}, workbook.Column{Name: "mid-span splices"},
-		workbook.Column{Name: "reel lengths", Unit: u.Length}, workbook.Column{Name: "mid-span splices at"},
-		workbook.Column{Name: "pull sections"},
-		workbook.Column{Name: "highest pull", Unit: u.Force}, workbook.Column{Name: "rated pull", Unit: u.Force},
-		workbook.Column{Name: "model cost", Unit: cur}, workbook.Column{Name: "feasible"}, workbook.Column{Name: "note"},
+	// The links sheet's columns in groups: an infeasible leg leaves its takeoff's and its
+	// schedule's blank, as many cells as the groups have columns.
+	takeoffCols := []workbook.Column{{Name: "medium"}, {Name: "application"},
+		{Name: "construction"}, {Name: "strands"}, {Name: "cables"},
+		{Name: "cable OD", Unit: u.Diameter}, {Name: "route", Unit: u.Length},
+		{Name: "risers", Unit: u.Length}, {Name: "slack loops", Unit: u.Length},
+		{Name: "structures passed"}, {Name: "cable bought", Unit: u.Length},
+		{Name: "reels"}, {Name: "mid-span splices"},
+		{Name: "reel lengths", Unit: u.Length}, {Name: "mid-span splices at"},
+		{Name: "pull sections"},
+		{Name: "highest pull", Unit: u.Force}, {Name: "rated pull", Unit: u.Force}}
+	// The schedule's (schedule.sheetCells), with the cut of each construction (links.csv's
+	// cut_length and inside_ columns) last, so that no earlier column moves.
+	scheduleCols := []workbook.Column{{Name: "jacket colour"}, {Name: "cable labels"},
+		{Name: "cut length", Unit: u.Length}, {Name: "inside cables"},
+		{Name: "inside cut at to", Unit: u.Length}, {Name: "inside cut at from", Unit: u.Length},
+		{Name: "inside labels"}}
+	linkCols := []workbook.Column{{Name: "link"}, {Name: "leg"}, {Name: "from"}, {Name: "to"}, {Name: "rate"}}
+	linkCols = append(linkCols, takeoffCols...)
+	linkCols = append(linkCols, workbook.Column{Name: "model cost", Unit: cur}, workbook.Column{Name: "feasible"}, workbook.Column{Name: "note"},
 		workbook.Column{Name: "from entrance"}, workbook.Column{Name: "to entrance"}, workbook.Column{Name: "buildings crossed"},
-		workbook.Column{Name: "turns at added handholes"}, workbook.Column{Name: "reason code"},
-		workbook.Column{Name: "jacket colour"}, workbook.Column{Name: "cable labels"},
-		// The cut of each construction (links.csv's cut_length and inside_ columns): last, so
-		// that no earlier column moves.
-		workbook.Column{Name: "cut length", Unit: u.Length}, workbook.Column{Name: "inside cables"},
-		workbook.Column{Name: "inside cut at to", Unit: u.Length}, workbook.Column{Name: "inside cut at from", Unit: u.Length},
-		workbook.Column{Name: "inside labels"})
+		workbook.Column{Name: "turns at added handholes"}, workbook.Column{Name: "reason code"})
+	links := wb.AddSheet("links", append(linkCols, scheduleCols...)...)
 	links.Filter = true
 	bom := wb.AddSheet("bill of materials", workbook.Column{Name: "category"}, workbook.Column{Name: "item"},
 		workbook.Column{Name: "unit"}, workbook.Column{Name: "quantity"}, workbook.Column{Name: "unit price", Unit: cur},
@@ -441,28 +444,25 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 		cells := []workbook.Cell{workbook.Text(l.Link.ID), workbook.Text(l.Name), workbook.Text(l.Link.From), workbook.Text(l.Link.To),
 			workbook.Text(l.Link.Rate)}
 		if !l.Feasible {
-			cells = append(cells, make([]workbook.Cell, 18)...)
+			cells = append(cells, make([]workbook.Cell, len(takeoffCols))...)
 			cells = append(cells, workbook.Cents(l.Cost.TotalCents()), workbook.Bool(false), workbook.Text(InUnits(opt, l.Reason)))
-			links.Append(append(append(cells, passage(r, l)...), make([]workbook.Cell, 7)...)...)
+			links.Append(append(append(cells, passage(r, l)...), scheduleOf(r, i).sheetCells(u)...)...)
 			continue
 		}
 		hi := hiOf[i]
 		rated := r.Engine.Catalog().Medium(l.Medium).Construction(l.Construction).PullRatingN(t.Size)
-		cells = append(cells, workbook.Text(l.Medium), workbook.Text(l.Application), workbook.Text(l.ConstructionText()),
-			workbook.Int(int64(l.StrandsCable)), workbook.Int(int64(t.Cables)), workbook.Number(u.MM(t.Size.ODMM), 1),
-			workbook.Number(u.M(l.RouteM), 1), workbook.Number(u.M(l.RiserM), 1), workbook.Number(u.M(t.SlackM()), 1),
-			workbook.Int(int64(t.Structures)), workbook.Number(u.M(t.LengthM), 1), workbook.Int(int64(t.Reels)),
+		sch := scheduleOf(r, i)
+		takeoff := []workbook.Cell{workbook.Text(l.Medium), workbook.Text(l.Application), workbook.Text(l.ConstructionText()),
+			workbook.Int(int64(l.StrandsCable)), workbook.Int(int64(sch.cables)), workbook.Number(u.MM(t.Size.ODMM), 1),
+			workbook.Number(u.M(l.RouteM), 1), workbook.Number(u.M(l.RiserM), 1), workbook.Number(u.M(sch.slackM), 1),
+			workbook.Int(int64(sch.structures)), workbook.Number(u.M(t.LengthM), 1), workbook.Int(int64(sch.reels)),
 			workbook.Int(int64(t.Joins)), workbook.Text(ReelsText(opt, t.ReelsM)), workbook.Text(SplicesText(opt, t.Splices)),
-			workbook.Int(int64(pullsOf[i])), workbook.Number(u.N(hi), 1), workbook.Number(u.N(rated), 1),
-			workbook.Cents(l.Cost.TotalCents()), workbook.Bool(true), workbook.Text(InUnits(opt, l.Reason)))
-		inside := []workbook.Cell{workbook.Blank(), workbook.Blank(), workbook.Blank(), workbook.Blank()}
-		if l.Inside != "" {
-			inside = []workbook.Cell{workbook.Int(int64(t.InsideCables)), workbook.Number(u.M(t.InsideToM), 1), workbook.Number(u.M(t.InsideFromM), 1),
-				workbook.Text(strings.Join(InsideLabels(r, i), " "))}
+			workbook.Int(int64(pullsOf[i])), workbook.Number(u.N(hi), 1), workbook.Number(u.N(rated), 1)}
+		if len(takeoff) != len(takeoffCols) {
+			panic(fmt.Sprintf("output: links sheet: %d takeoff cells for %d columns", len(takeoff), len(takeoffCols)))
 		}
-		cells = append(append(cells, passage(r, l)...), workbook.Text(JacketText(r, l)), workbook.Text(strings.Join(CableLabels(r, i), " ")),
-			workbook.Number(u.M(t.OutsideLengthM()), 1))
-		links.Append(append(cells, inside...)...)
+		cells = append(append(cells, takeoff...), workbook.Cents(l.Cost.TotalCents()), workbook.Bool(true), workbook.Text(InUnits(opt, l.Reason)))
+		links.Append(append(append(cells, passage(r, l)...), sch.sheetCells(u)...)...)
 	}
 	for _, p := range r.Estimate.Pulls {
 		l := &r.Legs[p.Leg]

@@ -324,7 +324,7 @@ func linksCSV(out io.Writer, r *route.Result, opt WriteOptions) error {
 			media.FormatCents(c.ConstructionCents), media.FormatCents(c.OpticsCents), InUnits(opt, l.Explain()))
 		row = append(row, passageText(l, tr)...)
 		row = append(row, l.ReasonCode)
-		w.Write(append(row, scheduleText(opt, r, i)...))
+		w.Write(append(row, scheduleOf(r, i).text(opt)...))
 	}
 	return w.Flush()
 }

@@ -9,10 +9,45 @@ import (
 	"spanwright/route"
 	"spanwright/route/items"
 	"spanwright/route/routing"
+	"spanwright/route/workbook"
 )
 
+// schedule is the cable schedule of one leg (scheduleOf), the one value links.csv's last
+// columns (text) and bom.xlsx's links sheet (sheetCells) render, each in its own order: its
+// cables, each cable's cut length (the cable bought of the leg's own construction, waste
+// included: routing.CableTakeoff.OutsideLengthM, which is all of the links sheet's "cable
+// bought" but with an entrance transition), the reels it takes, its slack loops' metres and
+// the structures passed (the takeoff's), the jacket colour (JacketText) and the cables' labels
+// (CableLabels); then, with an entrance transition (Leg.Inside), the inside cables and the
+// piece each is cut to at the served building (to) and at the cross-connect (from), and their
+// labels (InsideLabels). A cable's pieces add up to the cable bought: cut length + inside cut
+// to + inside cut from, and over the legs to the bill's cable lines in either units
+// (cableCut). An infeasible leg's schedule is blank, as many cells as a feasible one's.
+type schedule struct {
+	feasible, inside          bool
+	cables, reels, structures int
+	cutM, slackM              float64
+	jacket                    string
+	labels                    []string
+	insideCables              int
+	insideToM, insideFromM    float64
+	insideLabels              []string
+}
+
+// scheduleOf is the cable schedule of leg i of r.
+func scheduleOf(r *route.Result, i int) schedule {
+	l := &r.Legs[i]
+	if !l.Feasible {
+		return schedule{}
+	}
+	t := l.Cable
+	return schedule{feasible: true, inside: l.Inside != "", cables: t.Cables, reels: t.Reels, structures: t.Structures,
+		cutM: t.OutsideLengthM(), slackM: t.SlackM(), jacket: JacketText(r, l), labels: CableLabels(r, i),
+		insideCables: t.InsideCables, insideToM: t.InsideToM, insideFromM: t.InsideFromM, insideLabels: InsideLabels(r, i)}
+}
+
 // scheduleHead names links.csv's last columns, the cable schedule an installer cuts and
-// labels cable by (scheduleText), after reason_code so that no earlier column moves; the
+// labels cable by (schedule.text), after reason_code so that no earlier column moves; the
 // inside pieces of an entrance transition last, after cable_label.
 func scheduleHead(opt WriteOptions) []string {
 	cutH, _ := opt.lengthCol("cut_length")
@@ -23,30 +58,38 @@ func scheduleHead(opt WriteOptions) []string {
 		"inside_cables", toH, fromH, "inside_labels"}
 }
 
-// scheduleText is the cable schedule of leg i of r, as links.csv's last columns: its cables, each
-// cable's cut length (the cable bought of the leg's own construction, waste included:
-// routing.CableTakeoff.OutsideLengthM, which is all of bom.xlsx links sheet's "cable bought"
-// but with an entrance transition), the reels it takes, its slack loops' metres and the
-// structures passed (the takeoff's, as the links sheet), the jacket colour (JacketText) and
-// the cables' labels (CableLabels, separated by spaces); then, with an entrance transition
-// (Leg.Inside), the inside cables and the piece each is cut to at the served building (to) and
-// at the cross-connect (from), and their labels (InsideLabels), empty without. A cable's pieces
-// add up to the cable bought: cut length + inside cut to + inside cut from, and over the legs to
-// the bill's cable lines in either units (cableCut). Empty for an
+// text is s as links.csv's last columns (scheduleHead), lengths in the units of opt, labels
+// separated by spaces; the inside cells empty without a transition, all empty for an
 // infeasible leg.
-func scheduleText(opt WriteOptions, r *route.Result, i int) []string {
-	l := &r.Legs[i]
-	if !l.Feasible {
-		return make([]string, len(scheduleHead(opt)))
-	}
-	t := l.Cable
+func (s schedule) text(opt WriteOptions) []string {
 	_, length := opt.lengthCol("")
 	inside := []string{"", "", "", ""}
-	if l.Inside != "" {
-		inside = []string{strconv.Itoa(t.InsideCables), length(t.InsideToM), length(t.InsideFromM), strings.Join(InsideLabels(r, i), " ")}
+	if s.inside {
+		inside = []string{strconv.Itoa(s.insideCables), length(s.insideToM), length(s.insideFromM), strings.Join(s.insideLabels, " ")}
 	}
-	return append([]string{strconv.Itoa(t.Cables), length(t.OutsideLengthM()), strconv.Itoa(t.Reels), length(t.SlackM()),
-		strconv.Itoa(t.Structures), JacketText(r, l), strings.Join(CableLabels(r, i), " ")}, inside...)
+	out := append([]string{strconv.Itoa(s.cables), length(s.cutM), strconv.Itoa(s.reels), length(s.slackM),
+		strconv.Itoa(s.structures), s.jacket, strings.Join(s.labels, " ")}, inside...)
+	if !s.feasible {
+		return make([]string, len(out))
+	}
+	return out
+}
+
+// sheetCells is s as the last cells of the links sheet (its schedule columns: jacket colour,
+// cable labels, cut length, inside cables, inside cuts and inside labels; the cables, reels,
+// slack loops and structures passed are among the takeoff's cells before them), lengths in u
+// unrounded, shown to 0.1; blank as text is empty.
+func (s schedule) sheetCells(u Units) []workbook.Cell {
+	inside := []workbook.Cell{workbook.Blank(), workbook.Blank(), workbook.Blank(), workbook.Blank()}
+	if s.inside {
+		inside = []workbook.Cell{workbook.Int(int64(s.insideCables)), workbook.Number(u.M(s.insideToM), 1),
+			workbook.Number(u.M(s.insideFromM), 1), workbook.Text(strings.Join(s.insideLabels, " "))}
+	}
+	out := append([]workbook.Cell{workbook.Text(s.jacket), workbook.Text(strings.Join(s.labels, " ")), workbook.Number(u.M(s.cutM), 1)}, inside...)
+	if !s.feasible {
+		return make([]workbook.Cell, len(out))
+	}
+	return out
 }
 
 // cableCut is the cable the schedule cuts for each cable line of the bill (by its price key),

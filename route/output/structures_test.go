@@ -223,7 +223,7 @@ func TestStructuresTableIsTheSchedule(t *testing.T) {
 					continue
 				}
 				label := l.Label()
-				row := scheduleText(opt, r, i)
+				row := scheduleOf(r, i).text(opt)
 				var passed []string
 				for _, p := range l.Cable.Passed {
 					passed = append(passed, Structure{ID: p.ID, Span: p.Span, AtM: p.AtM}.Place(metresOf))
