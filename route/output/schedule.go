@@ -146,14 +146,18 @@ func (c cableCut) byConstruction() map[string]float64 {
 	return out
 }
 
-// JacketText is the jacket colour of a leg's cable as the catalog lists it for its
-// construction (TIA-598 colour names for premises fibre; an outside-plant construction gives
-// its own, commonly black), and with an entrance transition the inside construction's too,
-// as ConstructionText names them: "black + yellow at entrances". "" where the catalog gives
-// none (copper: TIA-598 covers optical fibre only).
-func JacketText(r *route.Result, l *routing.Leg) string {
+// JacketColours are the jacket colours of the cable leg l installs, as the catalog lists them
+// for its construction and, with an entrance transition (Leg.Inside), for the inside one: the
+// one decision on a leg's jacket, which links.csv, the links sheet (JacketText) and the report
+// format. TIA-598-D gives jacket colours for premises cable by fibre type (yellow single-mode,
+// aqua OM3/OM4, lime green OM5), which a construction takes from its medium unless the catalog
+// gives its own; it sets none for outside plant, whose jackets are commonly black, as the
+// catalog's outside-plant constructions say. "" where the catalog gives none (copper: TIA-598
+// covers optical fibre only) or has no such medium or construction: a premises colour is not
+// guessed for a construction the catalog does not know, which may be outside plant.
+func JacketColours(r *route.Result, l *routing.Leg) (outside, inside string) {
 	colour := func(construction string) string {
-		if r.Engine == nil {
+		if r.Engine == nil || construction == "" {
 			return ""
 		}
 		m := r.Engine.Catalog().Medium(l.Medium)
@@ -163,11 +167,18 @@ func JacketText(r *route.Result, l *routing.Leg) string {
 		if c := m.Construction(construction); c != nil {
 			return c.JacketColour
 		}
-		return m.JacketColour
+		return ""
 	}
-	out := colour(l.Construction)
-	if l.Inside != "" {
-		out += " + " + colour(l.Inside) + " at entrances"
+	return colour(l.Construction), colour(l.Inside)
+}
+
+// JacketText is the jacket colours of a leg's cable (JacketColours) as links.csv and the links
+// sheet write them, with an entrance transition the inside construction's too, as
+// ConstructionText names them: "black + yellow at entrances". "" where the catalog gives none.
+func JacketText(r *route.Result, l *routing.Leg) string {
+	out, inside := JacketColours(r, l)
+	if inside != "" {
+		out += " + " + inside + " at entrances"
 	}
 	return out
 }

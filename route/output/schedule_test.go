@@ -254,3 +254,36 @@ func TestOutsideReels(t *testing.T) {
 		t.Fatal("no leg with an entrance transition and mid-span joins: nothing to test")
 	}
 }
+
+// TestJacketColours: a leg's jacket colours are its constructions' as the catalog lists them
+// (TIA-598-D: premises cable coloured by fibre type, yellow for single-mode; outside plant
+// not coloured by it, black as the catalog's outside-plant constructions give it), and a
+// construction the catalog does not know has no colour rather than its medium's premises one,
+// which would call an unknown, perhaps outside-plant, cable yellow (reread11 item 6: links.csv
+// fell back to the medium's colour, the report to none).
+func TestJacketColours(t *testing.T) {
+	t.Parallel()
+	r := testplan.DemoResult(t)
+	transition := -1
+	for i := range r.Legs {
+		if r.Legs[i].Feasible && r.Legs[i].Inside != "" {
+			transition = i
+			break
+		}
+	}
+	if transition < 0 {
+		t.Fatal("the demo has no leg with an entrance transition")
+	}
+	l := r.Legs[transition]
+	if out, in := JacketColours(r, &l); l.Medium != "os2" || out != "black" || in != "yellow" {
+		t.Errorf("%s (%s %s + %s): jackets %q and %q, want black and yellow", l.Label(), l.Medium, l.Construction, l.Inside, out, in)
+	}
+	if got := JacketText(r, &l); got != "black + yellow at entrances" {
+		t.Errorf("%s: jacket text %q", l.Label(), got)
+	}
+	unknown := l
+	unknown.Construction, unknown.Inside = "no-such-construction", ""
+	if out, in := JacketColours(r, &unknown); out != "" || in != "" || JacketText(r, &unknown) != "" {
+		t.Errorf("unknown construction: jackets %q and %q, want none (not the medium's %q)", out, in, r.Engine.Catalog().Medium(l.Medium).JacketColour)
+	}
+}
