@@ -426,6 +426,12 @@ type Summary struct {
 	// pathway joining or a lateral tapping is counted under those: routing.Handhole.Purpose).
 	CrossingLegs  int `json:"crossing_legs"`
 	TurnHandholes int `json:"turn_handholes"`
+	// TurnsInOtherHandholes counts the junctions, each once, where a feasible leg turns
+	// between pathways (routing.Leg.Turns, links.csv's turns) in a handhole the plan adds for
+	// new pathway joining or a lateral tapping there, so counted under that purpose and not
+	// among TurnHandholes (routing.Handhole.Purpose). Not in summary.json: the terminal prints
+	// it beside TurnHandholes.
+	TurnsInOtherHandholes int `json:"-"`
 	// RunHandholes counts the handholes placed along new construction (design
 	// handhole_spacing_m and pull_bend_deg), and Entrances the building entrances the plan
 	// uses, each priced when the book prices building_entrance_each.
@@ -589,6 +595,18 @@ func Summarize(r *route.Result) Summary {
 	}
 	if r.Estimate != nil {
 		s.TurnHandholes = len(r.Estimate.Construction.TurnJunctions) // the bill's count, each once
+		turn, other := map[string]bool{}, map[string]bool{}
+		for _, j := range r.Estimate.Construction.TurnJunctions {
+			turn[j] = true
+		}
+		for _, l := range r.Legs {
+			for _, j := range l.Turns {
+				if l.Feasible && !turn[j] {
+					other[j] = true
+				}
+			}
+		}
+		s.TurnsInOtherHandholes = len(other)
 		s.RunHandholes = len(r.Estimate.Construction.RunHandholes)
 		s.JoinHandholes = len(r.Estimate.Construction.NewJunctions)
 		s.TapHandholes = len(r.Estimate.Construction.TapJunctions)
@@ -695,29 +713,6 @@ func GapText(gapPct *float64) string {
 	return PctText(*gapPct) + " %"
 }
 
-// turnsInOtherHandholes counts the junctions, each once, where a feasible leg turns between
-// pathways (routing.Leg.Turns, links.csv's turns) in a handhole the plan adds for new pathway
-// joining or a lateral tapping there, so counted under that purpose and not among the turn
-// handholes (routing.Handhole.Purpose).
-func turnsInOtherHandholes(r *route.Result) int {
-	if r.Estimate == nil {
-		return 0
-	}
-	turn := map[string]bool{}
-	for _, j := range r.Estimate.Construction.TurnJunctions {
-		turn[j] = true
-	}
-	other := map[string]bool{}
-	for _, l := range r.Legs {
-		for _, j := range l.Turns {
-			if l.Feasible && !turn[j] {
-				other[j] = true
-			}
-		}
-	}
-	return len(other)
-}
-
 // PrintSummary writes a short human summary of the result: links and legs, media, cable
 // bought by construction, new construction, pulling, and the total against the budget,
 // lengths and forces in the units of opt.
@@ -762,7 +757,7 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 	if line := diverseLine(s); line != "" {
 		fmt.Fprintln(w, line)
 	}
-	if more := turnsInOtherHandholes(r); s.CrossingLegs > 0 || s.TurnHandholes > 0 || more > 0 {
+	if more := s.TurnsInOtherHandholes; s.CrossingLegs > 0 || s.TurnHandholes > 0 || more > 0 {
 		also := ""
 		switch {
 		case more == 1:
