@@ -91,6 +91,23 @@ func TestLinksCSVPayloads(t *testing.T) {
 	}
 }
 
+// plannedCase is a plan that tests of the outputs check end to end: its name and how to plan it.
+type plannedCase struct {
+	name  string
+	solve func(testing.TB) *route.Result
+}
+
+// demoCase is the demo campus planned.
+var demoCase = plannedCase{"demo", testplan.DemoResult}
+
+// campusCase is the generated campus of n buildings (campusfiles, seed 1) planned.
+func campusCase(n int) plannedCase {
+	return plannedCase{fmt.Sprintf("%d buildings", n), func(tb testing.TB) *route.Result {
+		s, p := testplan.CampusSite(tb, n)
+		return testplan.SolvePlan(tb, s, p)
+	}}
+}
+
 // TestImperialBOMUnitPrices: in bom.csv with --units imperial every row extends: the
 // quantity in feet times the unit price per foot, as written, is the extended price (the
 // metric line's, so that the totals agree in either units) to the cent, |q × p − x| < 0.005,
@@ -103,16 +120,7 @@ func TestLinksCSVPayloads(t *testing.T) {
 // (campusfiles, seed 1).
 func TestImperialBOMUnitPrices(t *testing.T) {
 	t.Parallel()
-	for _, tc := range []struct {
-		name  string
-		solve func(testing.TB) *route.Result
-	}{
-		{"demo", testplan.DemoResult},
-		{"200 buildings", func(tb testing.TB) *route.Result {
-			s, p := testplan.CampusSite(tb, 200)
-			return testplan.SolvePlan(tb, s, p)
-		}},
-	} {
+	for _, tc := range []plannedCase{demoCase, campusCase(200)} {
 		t.Run(tc.name, func(t *testing.T) {
 			t.Parallel()
 			r := tc.solve(t)

@@ -119,16 +119,7 @@ func TestScheduleColumns(t *testing.T) {
 // direct-buried B-OBS), and so has the generated campus of 200 buildings (campusfiles, seed 1).
 func TestSchedulePiecesAddUpToBill(t *testing.T) {
 	t.Parallel()
-	for _, tc := range []struct {
-		name  string
-		solve func(testing.TB) *route.Result
-	}{
-		{"demo", testplan.DemoResult},
-		{"200 buildings", func(tb testing.TB) *route.Result {
-			s, p := testplan.CampusSite(tb, 200)
-			return testplan.SolvePlan(tb, s, p)
-		}},
-	} {
+	for _, tc := range []plannedCase{demoCase, campusCase(200)} {
 		t.Run(tc.name, func(t *testing.T) {
 			t.Parallel()
 			r := tc.solve(t)
