@@ -278,3 +278,51 @@ func TestJacketColours(t *testing.T) {
 		t.Errorf("unknown construction: jackets %q and %q, want none (not the medium's %q)", out, in, r.Engine.Catalog().Medium(l.Medium).JacketColour)
 	}
 }
+
+// TestLinksSheetInfeasibleRow: an infeasible leg's row of the links sheet leaves the takeoff's
+// and the schedule's cells blank, as many as their columns (counted from the column groups,
+// no longer written as the numbers 18 and 7: reread11 item 5), so that its model cost,
+// feasible flag, note and reason code stand under their own headers, as a feasible leg's do.
+func TestLinksSheetInfeasibleRow(t *testing.T) {
+	t.Parallel()
+	r := testplan.DemoResult(t)
+	bad := &r.Legs[0]
+	bad.Feasible, bad.Reason, bad.ReasonCode = false, "no medium reaches 612 m", "NOMEDIA"
+	files, err := Files(context.Background(), r, WriteOptions{SkipGeoPackage: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	xl, sheet := linksSheet(t, files)
+	defer xl.Close()
+	col := func(name string) int {
+		i := slices.Index(sheet[0], name)
+		if i < 0 {
+			t.Fatalf("links sheet: no column %q in %q", name, sheet[0])
+		}
+		return i
+	}
+	cell := func(row []string, i int) string {
+		if i < len(row) { // a row ends at its last cell that is not blank
+			return row[i]
+		}
+		return ""
+	}
+	row, good := sheet[1], sheet[2]
+	if cell(row, col("link")) != bad.Link.ID || cell(row, col("note")) != bad.Reason || cell(row, col("reason code")) != "NOMEDIA" {
+		t.Errorf("infeasible row %q: link, note or reason code out of place", row)
+	}
+	if cost, _ := strconv.ParseFloat(cell(row, col("model cost (USD)")), 64); math.Round(cost*100) != float64(bad.Cost.TotalCents()) {
+		t.Errorf("infeasible row: model cost %q, want %d cents", cell(row, col("model cost (USD)")), bad.Cost.TotalCents())
+	}
+	if cell(row, col("feasible")) == cell(good, col("feasible")) {
+		t.Errorf("feasible flag %q for the infeasible leg, %q for a feasible one", cell(row, col("feasible")), cell(good, col("feasible")))
+	}
+	for _, name := range []string{"medium", "cables", "rated pull (N)", "jacket colour", "cable labels", "cut length (m)", "inside labels"} {
+		if v := cell(row, col(name)); v != "" {
+			t.Errorf("infeasible row: %s %q, want blank", name, v)
+		}
+	}
+	if cell(good, col("jacket colour")) == "" || cell(good, col("cut length (m)")) == "" || cell(good, col("reason code")) == "" {
+		t.Errorf("feasible row %q: jacket, cut length or reason code blank", good)
+	}
+}
