@@ -449,15 +449,25 @@ func (sv *solver) needsTrench(e int32, areaMM2 float64) bool {
 		(sv.cap.fits != nil || areaMM2 > sv.st.free[e]+1e-9)
 }
 
+// opens reports whether opening candidate c would open its edge e, one not open yet: for a
+// run of trenches an edge with no duct added yet, else an edge no cable uses.
+func (sv *solver) opens(c *openCand, e int32) bool {
+	if c.trench {
+		return sv.st.added[e] == 0
+	}
+	return sv.st.count[e] == 0
+}
+
 // openCost is what opening candidate c would cost besides its demands' own: the FixedCents
-// of its unopened edges, or the trenches of its edges with no duct added yet.
+// of its unopened edges, or the trenches of its edges with no duct added yet (opens).
 func (sv *solver) openCost(c *openCand) int64 {
 	var cost int64
 	for _, e := range c.edges {
 		switch {
-		case c.trench && sv.st.added[e] == 0:
+		case !sv.opens(c, e):
+		case c.trench:
 			cost += sv.trenchCent[e]
-		case !c.trench && sv.st.count[e] == 0:
+		default:
 			cost += sv.fixedE[e]
 		}
 	}
@@ -731,7 +741,7 @@ func (sv *solver) openMoves() bool {
 		openCost := sv.openCost(&c)
 		sig := mix(0, 11)
 		for _, e := range c.edges {
-			if (c.trench && st.added[e] == 0) || (!c.trench && st.count[e] == 0) {
+			if sv.opens(&c, e) {
 				sig = mix(sig, uint64(e))
 			}
 		}

@@ -299,12 +299,7 @@ func (sv *solver) add(d int, c choice) {
 					sv.pendMark[e] = 0
 					i, _ := slices.BinarySearch(st.users[e], int32(d))
 					if sv.limited[e] {
-						n := sv.cables(d, c.opt)
-						st.ods[e][i] = sv.od(d, c.opt)
-						if sv.multi {
-							st.cnt[e][i] = int32(n)
-						}
-						sv.touch(e, d, sv.od(d, c.opt), n)
+						sv.putCable(e, i, d, c.opt, false)
 					}
 					continue
 				}
@@ -318,12 +313,7 @@ func (sv *solver) add(d int, c choice) {
 				}
 				st.users[e] = slices.Insert(st.users[e], i, int32(d))
 				if sv.limited[e] {
-					n := sv.cables(d, c.opt)
-					st.ods[e] = slices.Insert(st.ods[e], i, sv.od(d, c.opt))
-					if sv.multi {
-						st.cnt[e] = slices.Insert(st.cnt[e], i, int32(n))
-					}
-					sv.touch(e, d, sv.od(d, c.opt), n)
+					sv.putCable(e, i, d, c.opt, true)
 				}
 			}
 		}
@@ -358,6 +348,28 @@ func (sv *solver) settle() {
 		clear(sv.pendMark)
 		sv.pendSt = 1
 	}
+}
+
+// putCable puts demand d's cable with option o on limited edge e, at index i of its users
+// (where users holds d): its cable OD and, with options of several cables, its cable count,
+// in place of the entry remove left there (insert false) or as a new entry (insert true),
+// then hashes it into the edge's packing key (touch). add's two ways of taking a cable back
+// on an edge share it, so that the OD and count are worked out once each.
+func (sv *solver) putCable(e, i, d, o int, insert bool) {
+	st := sv.st
+	od, n := sv.od(d, o), sv.cables(d, o)
+	if insert {
+		st.ods[e] = slices.Insert(st.ods[e], i, od)
+		if sv.multi {
+			st.cnt[e] = slices.Insert(st.cnt[e], i, int32(n))
+		}
+	} else {
+		st.ods[e][i] = od
+		if sv.multi {
+			st.cnt[e][i] = int32(n)
+		}
+	}
+	sv.touch(e, d, od, n)
 }
 
 // dropUser deletes demand d's entry from edge e's users (and, on a capacity-limited edge,

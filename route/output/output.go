@@ -324,7 +324,7 @@ func linksCSV(out io.Writer, r *route.Result, opt WriteOptions) error {
 			media.FormatCents(c.ConstructionCents), media.FormatCents(c.OpticsCents), InUnits(opt, l.Explain()))
 		row = append(row, passageText(l, tr)...)
 		row = append(row, l.ReasonCode)
-		w.Write(append(row, scheduleText(opt, r, i)...))
+		w.Write(append(row, scheduleOf(r, i).text(opt)...))
 	}
 	return w.Flush()
 }
@@ -426,6 +426,12 @@ type Summary struct {
 	// pathway joining or a lateral tapping is counted under those: routing.Handhole.Purpose).
 	CrossingLegs  int `json:"crossing_legs"`
 	TurnHandholes int `json:"turn_handholes"`
+	// TurnsInOtherHandholes counts the junctions, each once, where a feasible leg turns
+	// between pathways (routing.Leg.Turns, links.csv's turns) in a handhole the plan adds for
+	// new pathway joining or a lateral tapping there, so counted under that purpose and not
+	// among TurnHandholes (routing.Handhole.Purpose). Not in summary.json: the terminal prints
+	// it beside TurnHandholes.
+	TurnsInOtherHandholes int `json:"-"`
 	// RunHandholes counts the handholes placed along new construction (design
 	// handhole_spacing_m and pull_bend_deg), and Entrances the building entrances the plan
 	// uses, each priced when the book prices building_entrance_each.
@@ -535,16 +541,17 @@ func newWorkM(e *estimate.Estimate) float64 {
 }
 
 // Totals are a plan's length totals, unrounded: the route of its feasible legs, the cable
-// bought for every leg (waste included) and the new civil work (Construction.NewM).
-// Summarize rounds them to 0.1 m for summary.json; the outputs for people show these,
-// converted and then rounded (Units.Rounded), so that a total in feet is the metres' own.
+// bought for every leg (waste included: the pieces the schedule cuts, cableCut, whole metres
+// that add up to the bill's cable lines) and the new civil work (Construction.NewM).
+// Summarize rounds them to 0.1 m for summary.json; the outputs for people show the route and
+// new work converted and then rounded (Units.Rounded), so that a total in feet is the metres'
+// own, and the cable bought as cableCut in their unit, the pieces as written added up.
 type Totals struct{ RouteM, CableM, NewM float64 }
 
 // TotalsOf adds up the totals of r.
 func TotalsOf(r *route.Result) Totals {
-	t := Totals{NewM: newWorkM(r.Estimate)}
+	t := Totals{NewM: newWorkM(r.Estimate), CableM: cutOf(WriteOptions{}, r).all()}
 	for _, l := range r.Legs {
-		t.CableM += l.Cable.LengthM * float64(l.Cable.Cables)
 		if l.Feasible {
 			t.RouteM += l.RouteM
 		}
@@ -588,6 +595,18 @@ func Summarize(r *route.Result) Summary {
 	}
 	if r.Estimate != nil {
 		s.TurnHandholes = len(r.Estimate.Construction.TurnJunctions) // the bill's count, each once
+		turn, other := map[string]bool{}, map[string]bool{}
+		for _, j := range r.Estimate.Construction.TurnJunctions {
+			turn[j] = true
+		}
+		for _, l := range r.Legs {
+			for _, j := range l.Turns {
+				if l.Feasible && !turn[j] {
+					other[j] = true
+				}
+			}
+		}
+		s.TurnsInOtherHandholes = len(other)
 		s.RunHandholes = len(r.Estimate.Construction.RunHandholes)
 		s.JoinHandholes = len(r.Estimate.Construction.NewJunctions)
 		s.TapHandholes = len(r.Estimate.Construction.TapJunctions)
@@ -694,29 +713,6 @@ func GapText(gapPct *float64) string {
 	return PctText(*gapPct) + " %"
 }
 
-// turnsInOtherHandholes counts the junctions, each once, where a feasible leg turns between
-// pathways (routing.Leg.Turns, links.csv's turns) in a handhole the plan adds for new pathway
-// joining or a lateral tapping there, so counted under that purpose and not among the turn
-// handholes (routing.Handhole.Purpose).
-func turnsInOtherHandholes(r *route.Result) int {
-	if r.Estimate == nil {
-		return 0
-	}
-	turn := map[string]bool{}
-	for _, j := range r.Estimate.Construction.TurnJunctions {
-		turn[j] = true
-	}
-	other := map[string]bool{}
-	for _, l := range r.Legs {
-		for _, j := range l.Turns {
-			if l.Feasible && !turn[j] {
-				other[j] = true
-			}
-		}
-	}
-	return len(other)
-}
-
 // PrintSummary writes a short human summary of the result: links and legs, media, cable
 // bought by construction, new construction, pulling, and the total against the budget,
 // lengths and forces in the units of opt.
@@ -748,26 +744,20 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 		}
 		fmt.Fprintf(w, "links by medium: %s\n", strings.Join(mix, ", "))
 	}
-	byCons := map[string]float64{}
-	for _, l := range r.Legs {
-		if l.Feasible {
-			byCons[l.Medium+" "+l.Construction] += l.Cable.OutsideLengthM() * float64(l.Cable.Cables)
-			if l.Inside != "" {
-				byCons[l.Medium+" "+l.Inside] += l.Cable.InsideLengthM * float64(l.Cable.InsideCables)
-			}
-		}
-	}
-	if len(byCons) > 0 {
+	// The cable the schedule cuts, as the bill buys it (cableCut), in the run's unit.
+	cut := cutOf(opt, r)
+	if byCons := cut.byConstruction(); len(byCons) > 0 {
+		shown := func(x float64) string { return strconv.FormatFloat(x, 'f', 1, 64) + " " + u.Length }
 		var parts []string
 		for _, k := range slices.Sorted(maps.Keys(byCons)) {
-			parts = append(parts, t(k)+" "+length(byCons[k]))
+			parts = append(parts, t(k)+" "+shown(byCons[k]))
 		}
-		fmt.Fprintf(w, "cable bought: %s (%s in all, %s)\n", strings.Join(parts, ", "), length(tot.CableM), Counted(s.MidSpanSplices, "mid-span splice", "mid-span splices"))
+		fmt.Fprintf(w, "cable bought: %s (%s in all, %s)\n", strings.Join(parts, ", "), shown(cut.all()), Counted(s.MidSpanSplices, "mid-span splice", "mid-span splices"))
 	}
 	if line := diverseLine(s); line != "" {
 		fmt.Fprintln(w, line)
 	}
-	if more := turnsInOtherHandholes(r); s.CrossingLegs > 0 || s.TurnHandholes > 0 || more > 0 {
+	if more := s.TurnsInOtherHandholes; s.CrossingLegs > 0 || s.TurnHandholes > 0 || more > 0 {
 		also := ""
 		switch {
 		case more == 1:

@@ -1,15 +1,53 @@
 package output
 
 import (
+	"math"
 	"strconv"
 	"strings"
 
+	"spanwright/media"
 	"spanwright/route"
+	"spanwright/route/items"
 	"spanwright/route/routing"
+	"spanwright/route/workbook"
 )
 
+// schedule is the cable schedule of one leg (scheduleOf), the one value links.csv's last
+// columns (text) and bom.xlsx's links sheet (sheetCells) render, each in its own order: its
+// cables, each cable's cut length (the cable bought of the leg's own construction, waste
+// included: routing.CableTakeoff.OutsideLengthM, which is all of the links sheet's "cable
+// bought" but with an entrance transition), the reels it takes, its slack loops' metres and
+// the structures passed (the takeoff's), the jacket colour (JacketText) and the cables' labels
+// (CableLabels); then, with an entrance transition (Leg.Inside), the inside cables and the
+// piece each is cut to at the served building (to) and at the cross-connect (from), and their
+// labels (InsideLabels). A cable's pieces add up to the cable bought: cut length + inside cut
+// to + inside cut from, and over the legs to the bill's cable lines in either units
+// (cableCut). An infeasible leg's schedule is blank, as many cells as a feasible one's.
+type schedule struct {
+	feasible, inside          bool
+	cables, reels, structures int
+	cutM, slackM              float64
+	jacket                    string
+	labels                    []string
+	insideCables              int
+	insideToM, insideFromM    float64
+	insideLabels              []string
+}
+
+// scheduleOf is the cable schedule of leg i of r.
+func scheduleOf(r *route.Result, i int) schedule {
+	l := &r.Legs[i]
+	if !l.Feasible {
+		return schedule{}
+	}
+	t := l.Cable
+	return schedule{feasible: true, inside: l.Inside != "", cables: t.Cables, reels: t.Reels, structures: t.Structures,
+		cutM: t.OutsideLengthM(), slackM: t.SlackM(), jacket: JacketText(r, l), labels: CableLabels(r, i),
+		insideCables: t.InsideCables, insideToM: t.InsideToM, insideFromM: t.InsideFromM, insideLabels: InsideLabels(r, i)}
+}
+
 // scheduleHead names links.csv's last columns, the cable schedule an installer cuts and
-// labels cable by (scheduleText), after reason_code so that no earlier column moves; the
+// labels cable by (schedule.text), after reason_code so that no earlier column moves; the
 // inside pieces of an entrance transition last, after cable_label.
 func scheduleHead(opt WriteOptions) []string {
 	cutH, _ := opt.lengthCol("cut_length")
@@ -20,39 +58,106 @@ func scheduleHead(opt WriteOptions) []string {
 		"inside_cables", toH, fromH, "inside_labels"}
 }
 
-// scheduleText is the cable schedule of leg i of r, as links.csv's last columns: its cables, each
-// cable's cut length (the cable bought of the leg's own construction, waste included:
-// routing.CableTakeoff.OutsideLengthM, which is all of bom.xlsx links sheet's "cable bought"
-// but with an entrance transition), the reels it takes, its slack loops' metres and the
-// structures passed (the takeoff's, as the links sheet), the jacket colour (JacketText) and
-// the cables' labels (CableLabels, separated by spaces); then, with an entrance transition
-// (Leg.Inside), the inside cables and the piece each is cut to at the served building (to) and
-// at the cross-connect (from), and their labels (InsideLabels), empty without. A cable's pieces
-// add up to the cable bought: cut length + inside cut to + inside cut from. Empty for an
+// text is s as links.csv's last columns (scheduleHead), lengths in the units of opt, labels
+// separated by spaces; the inside cells empty without a transition, all empty for an
 // infeasible leg.
-func scheduleText(opt WriteOptions, r *route.Result, i int) []string {
-	l := &r.Legs[i]
-	if !l.Feasible {
-		return make([]string, len(scheduleHead(opt)))
-	}
-	t := l.Cable
+func (s schedule) text(opt WriteOptions) []string {
 	_, length := opt.lengthCol("")
 	inside := []string{"", "", "", ""}
-	if l.Inside != "" {
-		inside = []string{strconv.Itoa(t.InsideCables), length(t.InsideToM), length(t.InsideFromM), strings.Join(InsideLabels(r, i), " ")}
+	if s.inside {
+		inside = []string{strconv.Itoa(s.insideCables), length(s.insideToM), length(s.insideFromM), strings.Join(s.insideLabels, " ")}
 	}
-	return append([]string{strconv.Itoa(t.Cables), length(t.OutsideLengthM()), strconv.Itoa(t.Reels), length(t.SlackM()),
-		strconv.Itoa(t.Structures), JacketText(r, l), strings.Join(CableLabels(r, i), " ")}, inside...)
+	out := append([]string{strconv.Itoa(s.cables), length(s.cutM), strconv.Itoa(s.reels), length(s.slackM),
+		strconv.Itoa(s.structures), s.jacket, strings.Join(s.labels, " ")}, inside...)
+	if !s.feasible {
+		return make([]string, len(out))
+	}
+	return out
 }
 
-// JacketText is the jacket colour of a leg's cable as the catalog lists it for its
-// construction (TIA-598 colour names for premises fibre; an outside-plant construction gives
-// its own, commonly black), and with an entrance transition the inside construction's too,
-// as ConstructionText names them: "black + yellow at entrances". "" where the catalog gives
-// none (copper: TIA-598 covers optical fibre only).
-func JacketText(r *route.Result, l *routing.Leg) string {
+// sheetCells is s as the last cells of the links sheet (its schedule columns: jacket colour,
+// cable labels, cut length, inside cables, inside cuts and inside labels; the cables, reels,
+// slack loops and structures passed are among the takeoff's cells before them), lengths in u
+// unrounded, shown to 0.1; blank as text is empty.
+func (s schedule) sheetCells(u Units) []workbook.Cell {
+	inside := []workbook.Cell{workbook.Blank(), workbook.Blank(), workbook.Blank(), workbook.Blank()}
+	if s.inside {
+		inside = []workbook.Cell{workbook.Int(int64(s.insideCables)), workbook.Number(u.M(s.insideToM), 1),
+			workbook.Number(u.M(s.insideFromM), 1), workbook.Text(strings.Join(s.insideLabels, " "))}
+	}
+	out := append([]workbook.Cell{workbook.Text(s.jacket), workbook.Text(strings.Join(s.labels, " ")), workbook.Number(u.M(s.cutM), 1)}, inside...)
+	if !s.feasible {
+		return make([]workbook.Cell, len(out))
+	}
+	return out
+}
+
+// cableCut is the cable the schedule cuts for each cable line of the bill (by its price key),
+// in tenths of the length unit of a run (a metre or a foot): over the feasible legs, cables ×
+// cut_length of the leg's own construction and, with an entrance transition, inside_cables ×
+// (inside_cut_to + inside_cut_from) of the inside one, each piece as links.csv and the links
+// sheet write it (whole metres; in feet converted, to 0.1 ft). It is the one figure of cable
+// bought by construction: the bill's cable lines in feet (bomUnit), the terminal's cable
+// bought and bom.xlsx's and summary.json's total, so that the pieces add up to what the
+// bill buys in feet as they do in metres (review 4 finding 9: converted one by one they came
+// 4.1 ft short of the bill's riser line on 200 buildings).
+type cableCut map[media.PriceKey]int64
+
+// cutOf is the cableCut of r in the units of opt.
+func cutOf(opt WriteOptions, r *route.Result) cableCut {
+	u := UnitsOf(opt)
+	tenths := func(m float64) int64 { return int64(math.Round(u.Rounded(m, 1) * 10)) }
+	out := cableCut{}
+	for i := range r.Legs {
+		l := &r.Legs[i]
+		if !l.Feasible {
+			continue
+		}
+		t := l.Cable
+		// The bill's keys (items.Cable, as the estimate's legItems buys the cable).
+		out[items.Cable(l.Medium, l.Construction, t.Size.Count, true, 0).Price] += int64(t.Cables) * tenths(t.OutsideLengthM())
+		if l.Inside != "" {
+			out[items.Cable(l.Medium, l.Inside, t.InsideSize.Count, true, 0).Price] += int64(t.InsideCables) * (tenths(t.InsideToM) + tenths(t.InsideFromM))
+		}
+	}
+	return out
+}
+
+// all is the cable cut of every construction, in the run's length unit.
+func (c cableCut) all() float64 {
+	var n int64
+	for _, x := range c {
+		n += x
+	}
+	return float64(n) / 10
+}
+
+// byConstruction is the cable cut of each medium and construction ("os2 ofnr-riser"), sizes
+// together, in the run's length unit.
+func (c cableCut) byConstruction() map[string]float64 {
+	n := map[string]int64{}
+	for k, x := range c {
+		n[k.Medium+" "+k.Construction] += x
+	}
+	out := make(map[string]float64, len(n))
+	for k, x := range n {
+		out[k] = float64(x) / 10
+	}
+	return out
+}
+
+// JacketColours are the jacket colours of the cable leg l installs, as the catalog lists them
+// for its construction and, with an entrance transition (Leg.Inside), for the inside one: the
+// one decision on a leg's jacket, which links.csv, the links sheet (JacketText) and the report
+// format. TIA-598-D gives jacket colours for premises cable by fibre type (yellow single-mode,
+// aqua OM3/OM4, lime green OM5), which a construction takes from its medium unless the catalog
+// gives its own; it sets none for outside plant, whose jackets are commonly black, as the
+// catalog's outside-plant constructions say. "" where the catalog gives none (copper: TIA-598
+// covers optical fibre only) or has no such medium or construction: a premises colour is not
+// guessed for a construction the catalog does not know, which may be outside plant.
+func JacketColours(r *route.Result, l *routing.Leg) (outside, inside string) {
 	colour := func(construction string) string {
-		if r.Engine == nil {
+		if r.Engine == nil || construction == "" {
 			return ""
 		}
 		m := r.Engine.Catalog().Medium(l.Medium)
@@ -62,11 +167,18 @@ func JacketText(r *route.Result, l *routing.Leg) string {
 		if c := m.Construction(construction); c != nil {
 			return c.JacketColour
 		}
-		return m.JacketColour
+		return ""
 	}
-	out := colour(l.Construction)
-	if l.Inside != "" {
-		out += " + " + colour(l.Inside) + " at entrances"
+	return colour(l.Construction), colour(l.Inside)
+}
+
+// JacketText is the jacket colours of a leg's cable (JacketColours) as links.csv and the links
+// sheet write them, with an entrance transition the inside construction's too, as
+// ConstructionText names them: "black + yellow at entrances". "" where the catalog gives none.
+func JacketText(r *route.Result, l *routing.Leg) string {
+	out, inside := JacketColours(r, l)
+	if inside != "" {
+		out += " + " + inside + " at entrances"
 	}
 	return out
 }

@@ -10,7 +10,6 @@ import (
 	"testing"
 
 	"spanwright/geo"
-	"spanwright/route"
 	"spanwright/route/internal/testplan"
 )
 
@@ -180,20 +179,7 @@ func TestListCell(t *testing.T) {
 // added for another purpose names as many junctions as links.csv's turns (finding 7).
 func TestStructuresTableIsTheSchedule(t *testing.T) {
 	t.Parallel()
-	campus := func(n int) func(testing.TB) *route.Result {
-		return func(tb testing.TB) *route.Result {
-			s, p := testplan.CampusSite(tb, n)
-			return testplan.SolvePlan(tb, s, p)
-		}
-	}
-	for _, tc := range []struct {
-		name  string
-		solve func(testing.TB) *route.Result
-	}{
-		{"demo", testplan.DemoResult},
-		{"40 buildings", campus(40)},
-		{"200 buildings", campus(200)},
-	} {
+	for _, tc := range []plannedCase{demoCase, campusCase(40), campusCase(200)} {
 		t.Run(tc.name, func(t *testing.T) {
 			t.Parallel()
 			r := tc.solve(t)
@@ -223,7 +209,7 @@ func TestStructuresTableIsTheSchedule(t *testing.T) {
 					continue
 				}
 				label := l.Label()
-				row := scheduleText(opt, r, i)
+				row := scheduleOf(r, i).text(opt)
 				var passed []string
 				for _, p := range l.Cable.Passed {
 					passed = append(passed, Structure{ID: p.ID, Span: p.Span, AtM: p.AtM}.Place(metresOf))

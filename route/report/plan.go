@@ -751,22 +751,19 @@ func legRows(r *route.Result, opt Options, med map[string]mediumInfo, names map[
 }
 
 // jacketOf is the jacket of the cable leg l installs, as the links table names it: "jacket
-// black" (its construction's colour, colourOf), and ", yellow at entrances" for a listed
-// cable spliced on at both entrances in another colour; "" when the catalog has no such
-// medium or construction.
-func jacketOf(cat *media.Catalog, l *routing.Leg) string {
-	m := cat.Medium(l.Medium)
-	if m == nil {
+// black" (its construction's colour, output.JacketColours, by colourOf's name), and ", yellow
+// at entrances" for a listed cable spliced on at both entrances in another colour; "" when the
+// catalog gives no colour for its construction (copper: no TIA-598 colour, which the medium's
+// label says) or has no such medium or construction.
+func jacketOf(r *route.Result, l *routing.Leg) string {
+	outside, inside := output.JacketColours(r, l)
+	if outside == "" {
 		return ""
 	}
-	k := m.Construction(l.Construction)
-	if k == nil || k.JacketColour == "" { // copper: no TIA-598 colour (the medium's label says so)
-		return ""
-	}
-	_, out := colourOf(k.JacketColour)
-	if in := m.Construction(l.Inside); in != nil && in.JacketColour != "" && in.JacketColour != k.JacketColour {
-		_, inside := colourOf(in.JacketColour)
-		out += ", " + inside + " at entrances"
+	_, out := colourOf(outside)
+	if inside != "" && inside != outside {
+		_, in := colourOf(inside)
+		out += ", " + in + " at entrances"
 	}
 	return "jacket " + out
 }
@@ -794,7 +791,7 @@ func legRowOf(r *route.Result, l *routing.Leg, opt Options, med map[string]mediu
 	}
 	if l.Medium != "" {
 		row.Medium, row.HasMedium = med[l.Medium], true
-		row.Jacket = jacketOf(r.Engine.Catalog(), l)
+		row.Jacket = jacketOf(r, l)
 	}
 	for _, nm := range nms {
 		c := lossCell{}
