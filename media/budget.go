@@ -139,6 +139,8 @@ func (e *Engine) budgetFor(k *Construction, a *Application, reaches []Reach, cha
 			x.LimitDB = b.r.MaxLossDB
 			x.MarginDB = roundDB(x.LimitDB - x.LossDB)
 			x.RequiredMarginDB = requiredDB
+			x.FieldLimitDB, x.FieldLimitBy = x.CablingLimitDB, FieldLimitByCabling
+			x.accept(a.Name, x.LimitDB, x.AttenuatorDB)
 		}
 	}
 	return b

@@ -477,6 +477,9 @@ func (e *Engine) evaluate(c *candidate, l Link, at lengths, mi, ai, ki int, insi
 
 // future fills the future_* facts: whether some application at the future rate on the same
 // medium and construction reaches the channel and closes its budget with the plan's margin.
+// When one does, its channel insertion loss (less its attenuator) also bounds the field
+// limits of the candidate's losses at its wavelengths (Loss.accept): the link is accepted
+// for the rate it is planned to carry later too.
 func (e *Engine) future(l Link, c *candidate) {
 	f := &c.f
 	f[fFutureApplication].str = "none"
@@ -487,6 +490,7 @@ func (e *Engine) future(l Link, c *candidate) {
 	channel := c.f[fChannelM].num
 	var best *Application
 	var bestR Reach
+	var bestLosses []Loss
 	bestMargin, bestScore := 0.0, -1
 	for _, a := range e.cat.Applications {
 		rs := e.reachesOn(a, c.m)
@@ -507,7 +511,7 @@ func (e *Engine) future(l Link, c *candidate) {
 		}
 		if score > bestScore || (score == bestScore && score == 0 && r.RangeM > bestR.RangeM) ||
 			(score == bestScore && score == 1 && margin > bestMargin) {
-			best, bestR, bestMargin, bestScore = a, r, margin, score
+			best, bestR, bestMargin, bestScore, bestLosses = a, r, margin, score, b.losses
 		}
 	}
 	if best == nil {
@@ -520,6 +524,13 @@ func (e *Engine) future(l Link, c *candidate) {
 	switch bestScore {
 	case 2:
 		f[fFutureFits].b = true
+		for _, fx := range bestLosses {
+			for j := range c.losses {
+				if x := &c.losses[j]; fx.Operating && x.WavelengthNM == fx.WavelengthNM {
+					x.accept(best.Name, fx.LimitDB, fx.AttenuatorDB)
+				}
+			}
+		}
 	case 1:
 		f[fFutureNote].str = fmt.Sprintf("%s leaves a loss margin of %s dB, below the required %s dB, or overloads its receiver",
 			best.Name, formatNum(bestMargin), formatNum(c.b.requiredDB))

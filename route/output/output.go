@@ -292,6 +292,7 @@ func linksCSV(out io.Writer, r *route.Result, opt WriteOptions) error {
 	head = append(head, passageHead...)
 	head = append(head, "reason_code")
 	head = append(head, scheduleHead(opt)...)
+	head = append(head, acceptanceHead()...)
 	w.Write(head)
 	db := func(x float64) string { return strconv.FormatFloat(x, 'f', 2, 64) }
 	for i := range r.Legs {
@@ -324,9 +325,31 @@ func linksCSV(out io.Writer, r *route.Result, opt WriteOptions) error {
 			media.FormatCents(c.ConstructionCents), media.FormatCents(c.OpticsCents), InUnits(opt, l.Explain()))
 		row = append(row, passageText(l, tr)...)
 		row = append(row, l.ReasonCode)
-		w.Write(append(row, scheduleText(opt, r, i)...))
+		row = append(row, scheduleText(opt, r, i)...)
+		w.Write(append(row, acceptanceText(l)...))
 	}
 	return w.Flush()
+}
+
+// acceptanceHead names links.csv's columns after the cable schedule: what decides each
+// wavelength's field limit (field_limit_…_db).
+func acceptanceHead() []string {
+	var head []string
+	for _, nm := range routing.Wavelengths {
+		head = append(head, fmt.Sprintf("field_limit_by_%d", nm))
+	}
+	return head
+}
+
+// acceptanceText is leg l's acceptanceHead columns: per wavelength media.Loss.FieldLimitBy
+// ("TIA-568.3-D" or the application; "" where the leg has no loss there).
+func acceptanceText(l *routing.Leg) []string {
+	var row []string
+	for _, nm := range routing.Wavelengths {
+		x, _ := l.LossAt(nm)
+		row = append(row, x.FieldLimitBy)
+	}
+	return row
 }
 
 // metresText finds a length in metres in a text of the rules ("a 247.41 m channel").

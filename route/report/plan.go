@@ -67,6 +67,7 @@ func mediumOf(cat *media.Catalog, id string) mediumInfo {
 
 type lossCell struct {
 	Text      string
+	Field     string // the field test limit there (media.Loss.FieldLimitDB); "" without a loss
 	Operating bool
 }
 
@@ -93,11 +94,14 @@ type legRow struct {
 	Route, Lat, Riser string
 	Losses            []lossCell
 	Limit, Margin     string
-	Bar               *marginBar
-	Cost              string
-	Reason            string
-	Rejected          []string
-	Pathways          string
+	// Acceptance says, under the reason, which field test limits an application sets below
+	// the ANSI/TIA-568.3-D link limit; "" when none.
+	Acceptance string
+	Bar        *marginBar
+	Cost       string
+	Reason     string
+	Rejected   []string
+	Pathways   string
 	// EntranceFrom and EntranceTo are the entrances used at From and To; Crosses the
 	// buildings the route passes through and Turns the junctions where it turns at a
 	// handhole the plan adds, in travel order.
@@ -800,11 +804,12 @@ func legRowOf(r *route.Result, l *routing.Leg, opt Options, med map[string]mediu
 		c := lossCell{}
 		for _, x := range l.Losses {
 			if x.WavelengthNM == nm {
-				c = lossCell{Text: dB(x.LossDB), Operating: x.Operating}
+				c = lossCell{Text: dB(x.LossDB), Field: dB(x.FieldLimitDB), Operating: x.Operating}
 			}
 		}
 		row.Losses = append(row.Losses, c)
 	}
+	row.Acceptance = acceptanceOf(l.Losses)
 	var worst *media.Loss
 	for k := range l.Losses {
 		x := &l.Losses[k]
@@ -831,6 +836,23 @@ func legRowOf(r *route.Result, l *routing.Leg, opt Options, med map[string]mediu
 		row.Bar = b
 	}
 	return row
+}
+
+// acceptanceOf is the links table's line on a leg's acceptance: the wavelengths whose field
+// test limit an application sets below the ANSI/TIA-568.3-D link limit, with both figures;
+// "" when there is none.
+func acceptanceOf(losses []media.Loss) string {
+	var parts []string
+	for _, x := range losses {
+		if x.FieldLimitBy != "" && x.FieldLimitBy != media.FieldLimitByCabling {
+			parts = append(parts, fmt.Sprintf("at %d nm %s dB, set by %s (ANSI/TIA-568.3-D link limit %s dB)",
+				x.WavelengthNM, dB(x.FieldLimitDB), x.FieldLimitBy, dB(x.CablingLimitDB)))
+		}
+	}
+	if len(parts) == 0 {
+		return ""
+	}
+	return "Field test limit " + strings.Join(parts, "; ") + "."
 }
 
 // fillRows lists the spans whose ducts limit the fill, those over the NFPA 70 Chapter 9
@@ -1247,11 +1269,15 @@ func (l legRow) HTML(span int) template.HTML {
 	td(&p, "n", l.Riser)
 	p.w("\n")
 	for _, c := range l.Losses {
+		class := markup("n")
 		if c.Operating {
-			td(&p, "n op", c.Text)
-		} else {
-			td(&p, "n", c.Text)
+			class = "n op"
 		}
+		p.w(`<td class="`, class, `">`, t(c.Text))
+		if c.Field != "" {
+			p.w(`<br><span class="small field">≤ `, t(c.Field), "</span>")
+		}
+		p.w("</td>")
 	}
 	p.w("\n")
 	td(&p, "n", l.Limit)
@@ -1268,6 +1294,9 @@ func (l legRow) HTML(span int) template.HTML {
 		p.w("<b>Infeasible:</b> ")
 	}
 	p.w(t(l.Reason), "</span>")
+	if l.Acceptance != "" {
+		p.w(`<br><span class="small acceptance">`, t(l.Acceptance), "</span>")
+	}
 	if len(l.Rejected) > 0 {
 		p.w(`<br><span class="small">Not chosen: `, t(strings.Join(l.Rejected, "; ")), ".</span>")
 	}
