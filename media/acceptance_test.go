@@ -3,6 +3,7 @@ package media
 import (
 	"math"
 	"slices"
+	"strings"
 	"testing"
 )
 
@@ -72,5 +73,74 @@ func TestFieldLimitLessAttenuator(t *testing.T) {
 	x = b.losses[slices.IndexFunc(b.losses, func(x Loss) bool { return x.WavelengthNM == 1550 })]
 	if x.FieldLimitDB != 3.1 || x.FieldLimitBy != FieldLimitByCabling {
 		t.Errorf("1550 nm, 11 dB: field limit %.3f by %s, want 3.1 by TIA-568.3-D", x.FieldLimitDB, x.FieldLimitBy)
+	}
+}
+
+// TestRefusedApplicationNamed: within the chosen medium, a cheaper application refused is
+// named with its rule and numbers (tester 8, finding 5). 6,100 m of single-mode channel, 16 m
+// of it inside the end buildings (8 m each, within NFPA 70 770.48's 15 m, so outside-plant
+// cable runs to the panels): 6,084 m of outside plant takes ceil(6.084 × 0.5) = 4 repair
+// splices (catalog margins, common practice, no published source), so the margin required is
+// 0.5 + 4 × 0.3 = 1.7 dB. 10GBASE-LR at 1310 nm loses 6.1 km × 0.5 dB/km (ANSI/TIA-568.3-D
+// outside plant, from memory) + 2 × 0.5 + 2 × 0.3 = 4.65 dB against 6.2 dB (IEEE 802.3 Clause
+// 52, seen): margin 1.55 dB, refused. 10GBASE-ER loses the same 4.65 dB at 1550 nm, under its
+// receiver's 5 dB (IEEE 802.3 Clause 52, seen), so takes the demo book's 3 dB attenuator at
+// each receiver: 7.65 dB against 11 dB. The demo book's optics: LR 45.00, ER 190.00 and the
+// attenuator 16.00 (invented), so LR would cost 2 × 145 + 2 × 16 = 322.00 USD less.
+func TestRefusedApplicationNamed(t *testing.T) {
+	t.Parallel()
+	c := DefaultCatalog()
+	c.Media = slices.DeleteFunc(c.Media, func(m *Medium) bool { return m.ID != "os2" })
+	e := newEngine(t, c, nil, EngineOptions{})
+	l := Link{ID: "R", RouteM: 6074, RiserM: 10, SlackM: 16, RateGbps: 10, Outdoor: true, ConnectorPairs: 2, Strands: 2,
+		InsideAM: 8, InsideBM: 8, PathwayTypes: []string{"duct"}}
+	ch := e.Choose(l)
+	if !ch.Feasible || ch.Application != "10GBASE-ER" {
+		t.Fatalf("10GBASE-ER on 6.1 km: %s", ch.Reason)
+	}
+	want := "10GBASE-LR, 322.00 USD less, rejected by loss-budget: 10GBASE-LR on osp-loose-tube loses 4.65 dB at 1310 nm against a limit of 6.2 dB; " +
+		"margin 1.55 dB is below the required 1.7 dB (0.5 dB + 4 repair splices of 0.3 dB)"
+	if !strings.Contains(ch.Reason, want) {
+		t.Errorf("reason %q\nwant it to hold %q", ch.Reason, want)
+	}
+	if w, _ := worstLoss(ch.Losses); w.RequiredMarginDB != 1.7 {
+		t.Errorf("required margin %.3f dB, want 1.7", w.RequiredMarginDB)
+	}
+	// 5 km: LR closes (4.1 dB, margin 2.1 against 0.5 + 3 × 0.3 = 1.4) and is chosen; no
+	// application is refused, so none is named.
+	l.RouteM = 4974
+	ch = e.Choose(l)
+	if ch.Application != "10GBASE-LR" || strings.Contains(ch.Reason, "10GBASE-ER,") {
+		t.Errorf("5 km: %s, want 10GBASE-LR and no other application named: %s", ch.Application, ch.Reason)
+	}
+}
+
+// TestMarginBasis: the words for the required margin, as the loss-budget rule shows them.
+// The catalog's margins (common practice, no published source): multimode 0 dB, single-mode
+// 0.5 dB plus 0.3 dB per repair splice (design splice loss, common practice).
+func TestMarginBasis(t *testing.T) {
+	t.Parallel()
+	c := DefaultCatalog()
+	e := newEngine(t, c, nil, EngineOptions{})
+	floor := newEngine(t, c, nil, EngineOptions{LossMarginDB: 1})
+	os2, om3, cat6a := c.Medium("os2"), c.Medium("om3"), c.Medium("cat6a")
+	for _, tc := range []struct {
+		name string
+		e    *Engine
+		m    *Medium
+		n    int
+		want string
+	}{
+		{"multimode", e, om3, 0, "the catalog's multimode margin"},
+		{"single-mode inside", e, os2, 0, "the catalog's single-mode margin"},
+		{"one repair splice", e, os2, 1, "0.5 dB + 1 repair splice of 0.3 dB"},
+		{"three repair splices", e, os2, 3, "0.5 dB + 3 repair splices of 0.3 dB"},
+		{"plan floor above the policy", floor, os2, 1, "the plan's loss_margin_db"},
+		{"policy above the plan floor", floor, os2, 2, "0.5 dB + 2 repair splices of 0.3 dB"},
+		{"copper", e, cat6a, 0, ""},
+	} {
+		if got := tc.e.marginBasis(tc.m, tc.n); got != tc.want {
+			t.Errorf("%s: got %q, want %q", tc.name, got, tc.want)
+		}
 	}
 }

@@ -444,6 +444,7 @@ func (e *Engine) evaluate(c *candidate, l Link, at lengths, mi, ai, ki int, insi
 	f[fAttenuatorDB].num = float64(c.b.attDB)
 	f[fOverloadDB].num = c.b.overloadDB
 	f[fRepairSplices].num = float64(c.repair)
+	f[fLossMarginBasis].str = e.marginBasis(m, c.repair)
 	e.future(l, c)
 	for ri, rule := range e.rules.Rules {
 		if !rule.appliesTo(m) {
@@ -762,7 +763,7 @@ func (e *Engine) choose(l Link) Choice {
 		ch.Code = CodeNoMedium
 		return ch
 	}
-	ch.Reason, ch.Code = e.reason(l, win, ok)
+	ch.Reason, ch.Code = e.reason(l, win, ok, all)
 	return ch
 }
 
@@ -935,8 +936,9 @@ func (e *Engine) preferRule(i int) *Rule {
 }
 
 // reason is the one-sentence explanation of a choice and its code: CodeOnly, CodeCheapest or
-// CodePreferred.
-func (e *Engine) reason(l Link, win *candidate, ok []*candidate) (string, string) {
+// CodePreferred; then, for each application at the rate on the winner's medium that would
+// cost less but no laying of which is feasible, why it was refused (refusedApps).
+func (e *Engine) reason(l Link, win *candidate, ok, all []*candidate) (string, string) {
 	var b strings.Builder
 	code := CodeOnly
 	fmt.Fprintf(&b, "%s with %s on %s ", win.m.ID, win.a.Name, win.label())
@@ -964,7 +966,61 @@ func (e *Engine) reason(l Link, win *candidate, ok []*candidate) (string, string
 	} else {
 		fmt.Fprintf(&b, ", within its %s m reach", formatNum(win.r.RangeM))
 	}
+	for _, why := range e.refusedApps(l, win, ok, all) {
+		b.WriteString("; ")
+		b.WriteString(why)
+	}
 	return b.String(), code
+}
+
+// refusedApps says, for each other application at the link's rate on the winner's medium
+// that would cost less than the winner but was refused, why: "10GBASE-LR, 2,140.00 USD less,
+// rejected by loss-budget: …" with the rule's reason. It judges the application on the
+// winner's laying (construction and transition), which the winner's numbers are for: refused
+// there, it is named, and where it is feasible on another laying at a higher cost that is
+// said too; feasible there, it lost on price or preference and is not named. An application
+// with no candidate on the winner's laying is judged by its candidate that fails the fewest
+// rules, and named only when it has no feasible one at all.
+func (e *Engine) refusedApps(l Link, win *candidate, ok, all []*candidate) []string {
+	var out []string
+	for ai, a := range e.cat.Applications {
+		if ai == win.ai {
+			continue
+		}
+		var pick *candidate
+		for _, c := range all {
+			if c.mi == win.mi && c.ai == ai && c.ki == win.ki && c.inside == win.inside {
+				pick = c
+			}
+		}
+		i := slices.IndexFunc(ok, func(c *candidate) bool { return c.mi == win.mi && c.ai == ai })
+		if pick == nil && i < 0 {
+			for _, c := range all {
+				if c.mi == win.mi && c.ai == ai && (pick == nil || c.nFailed < pick.nFailed) {
+					pick = c
+				}
+			}
+		}
+		if pick == nil || pick.failed < 0 {
+			continue
+		}
+		// Its cost as Choose would price it, on a copy: cost sets the candidate's labour.
+		cp := *pick
+		channel := pick.f[fChannelM].num
+		_, cents := e.cost(&cp, channel, l.transitionInsideM(channel))
+		if cents >= win.costCents {
+			continue
+		}
+		rule := e.rules.Rules[pick.failed]
+		why := fmt.Sprintf("%s, %s %s less, rejected by %s: %s", a.Name, FormatCents(win.costCents-cents),
+			e.prices.Currency, rule.ID, rule.reason.render(pick.f[:]))
+		if i >= 0 { // ok is sorted: its first candidate of a is a's best
+			why += fmt.Sprintf(", and is feasible on %s at %s %s more than %s", ok[i].label(), FormatCents(ok[i].costCents-win.costCents),
+				e.prices.Currency, win.a.Name)
+		}
+		out = append(out, why)
+	}
+	return out
 }
 
 // feasibleAt reports whether medium mi carries l at channelM metres with some application

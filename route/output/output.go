@@ -332,24 +332,30 @@ func linksCSV(out io.Writer, r *route.Result, opt WriteOptions) error {
 }
 
 // acceptanceHead names links.csv's columns after the cable schedule: what decides each
-// wavelength's field limit (field_limit_…_db).
+// wavelength's field limit (field_limit_…_db), then the margin the leg must keep, beside
+// margin_db's worth of it.
 func acceptanceHead() []string {
 	var head []string
 	for _, nm := range routing.Wavelengths {
 		head = append(head, fmt.Sprintf("field_limit_by_%d", nm))
 	}
-	return head
+	return append(head, "required_margin_db")
 }
 
 // acceptanceText is leg l's acceptanceHead columns: per wavelength media.Loss.FieldLimitBy
-// ("TIA-568.3-D" or the application; "" where the leg has no loss there).
+// ("TIA-568.3-D" or the application; "" where the leg has no loss there), then the worst
+// operating wavelength's RequiredMarginDB, which margin_db is held to ("" without a loss
+// budget).
 func acceptanceText(l *routing.Leg) []string {
 	var row []string
 	for _, nm := range routing.Wavelengths {
 		x, _ := l.LossAt(nm)
 		row = append(row, x.FieldLimitBy)
 	}
-	return row
+	if w, ok := l.WorstLoss(); ok {
+		return append(row, strconv.FormatFloat(w.RequiredMarginDB, 'f', 2, 64))
+	}
+	return append(row, "")
 }
 
 // metresText finds a length in metres in a text of the rules ("a 247.41 m channel").
