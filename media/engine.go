@@ -961,8 +961,11 @@ func (e *Engine) reason(l Link, win *candidate, ok, all []*candidate) (string, s
 	}
 	fmt.Fprintf(&b, " for a %s m channel", formatNum(l.ChannelM()))
 	if w, found := worstLoss(win.losses); found {
-		fmt.Fprintf(&b, ", loss %s dB against %s dB at %d nm (margin %s dB)", formatNum(w.LossDB), formatNum(w.LimitDB),
-			w.WavelengthNM, formatNum(w.MarginDB))
+		fmt.Fprintf(&b, ", loss %s dB", formatNum(w.LossDB))
+		if w.AttenuatorDB > 0 {
+			fmt.Fprintf(&b, " (a %s dB fixed attenuator at each receiver included)", formatNum(w.AttenuatorDB))
+		}
+		fmt.Fprintf(&b, " against %s dB at %d nm (margin %s dB)", formatNum(w.LimitDB), w.WavelengthNM, formatNum(w.MarginDB))
 	} else {
 		fmt.Fprintf(&b, ", within its %s m reach", formatNum(win.r.RangeM))
 	}

@@ -244,6 +244,10 @@ func TestReceiverOverload(t *testing.T) {
 	if math.Abs(w.LossDB-6.65) > 0.001 || w.AttenuatorDB != 5 || math.Abs(w.FieldLimitDB-(0.05+1.5+0.6)) > 0.001 || w.FieldLimitBy != FieldLimitByCabling {
 		t.Errorf("loss %.3f dB (attenuator %.0f dB), field limit %.3f dB by %s; want 6.65, 5 and 2.15 by TIA-568.3-D", w.LossDB, w.AttenuatorDB, w.FieldLimitDB, w.FieldLimitBy)
 	}
+	// The reason says the loss holds the attenuator (tester 8, finding 10).
+	if want := "loss 6.65 dB (a 5 dB fixed attenuator at each receiver included) against 11 dB at 1550 nm (margin 4.35 dB)"; !strings.Contains(ch.Reason, want) {
+		t.Errorf("reason %q\nwant it to hold %q", ch.Reason, want)
+	}
 	q, ok := ch.AttenuatorQuantity()
 	if !ok || q.Amount != 2 || q.Price != (PriceKey{Item: PriceAttenuator, Count: 5}) {
 		t.Errorf("bill line %+v, want 2 attenuators of 5 dB", q)

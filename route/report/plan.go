@@ -95,7 +95,7 @@ type legRow struct {
 	Losses            []lossCell
 	Limit, Margin     string
 	// Acceptance says, under the reason, which field test limits an application sets below
-	// the ANSI/TIA-568.3-D link limit; "" when none.
+	// the ANSI/TIA-568.3-D link limit and the attenuator the loss includes; "" when neither.
 	Acceptance string
 	Bar        *marginBar
 	Cost       string
@@ -839,20 +839,29 @@ func legRowOf(r *route.Result, l *routing.Leg, opt Options, med map[string]mediu
 }
 
 // acceptanceOf is the links table's line on a leg's acceptance: the wavelengths whose field
-// test limit an application sets below the ANSI/TIA-568.3-D link limit, with both figures;
-// "" when there is none.
+// test limit an application sets below the ANSI/TIA-568.3-D link limit, with both figures,
+// and the fixed attenuator at each receiver that the loss includes; "" when there is neither.
 func acceptanceOf(losses []media.Loss) string {
 	var parts []string
+	att := 0.0
 	for _, x := range losses {
 		if x.FieldLimitBy != "" && x.FieldLimitBy != media.FieldLimitByCabling {
 			parts = append(parts, fmt.Sprintf("at %d nm %s dB, set by %s (ANSI/TIA-568.3-D link limit %s dB)",
 				x.WavelengthNM, dB(x.FieldLimitDB), x.FieldLimitBy, dB(x.CablingLimitDB)))
 		}
+		if x.Operating {
+			att = max(att, x.AttenuatorDB)
+		}
 	}
-	if len(parts) == 0 {
-		return ""
+	var out []string
+	if len(parts) > 0 {
+		out = append(out, "Field test limit "+strings.Join(parts, "; ")+".")
 	}
-	return "Field test limit " + strings.Join(parts, "; ") + "."
+	if att > 0 {
+		out = append(out, fmt.Sprintf("The loss includes a %s dB fixed attenuator at each receiver; the link is tested without it.",
+			strconv.FormatFloat(att, 'f', -1, 64)))
+	}
+	return strings.Join(out, " ")
 }
 
 // fillRows lists the spans whose ducts limit the fill, those over the NFPA 70 Chapter 9
