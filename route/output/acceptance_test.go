@@ -6,7 +6,6 @@ import (
 	"strconv"
 	"testing"
 
-	"spanwright/media"
 	"spanwright/route/internal/testplan"
 )
 
@@ -18,13 +17,8 @@ import (
 // media's TestFieldLimitLessAttenuator), so that the application and the attenuator show.
 func TestLinksAcceptanceColumns(t *testing.T) {
 	t.Parallel()
-	r := testplan.DemoResult(t)
+	r, x := testplan.DemoOperatingLoss(t)
 	l := &r.Legs[0]
-	j := slices.IndexFunc(l.Losses, func(x media.Loss) bool { return x.Operating })
-	if j < 0 {
-		t.Fatalf("leg %s has no operating wavelength", l.Label())
-	}
-	x := &l.Losses[j]
 	x.AttenuatorDB, x.LimitDB, x.FieldLimitDB, x.FieldLimitBy = 5, 6, 1, "10GBASE-ER"
 	files, err := Files(context.Background(), r, WriteOptions{SkipGeoPackage: true})
 	if err != nil {

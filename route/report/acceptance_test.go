@@ -2,12 +2,10 @@ package report
 
 import (
 	"context"
-	"slices"
 	"strconv"
 	"strings"
 	"testing"
 
-	"spanwright/media"
 	"spanwright/route/internal/testplan"
 )
 
@@ -18,13 +16,7 @@ import (
 // OM3, from memory; ANSI/TIA-568.3-D, from memory: tester 8's ADM-CHM) and a 5 dB attenuator.
 func TestPlanAcceptance(t *testing.T) {
 	t.Parallel()
-	r := testplan.DemoResult(t)
-	l := &r.Legs[0]
-	j := slices.IndexFunc(l.Losses, func(x media.Loss) bool { return x.Operating })
-	if j < 0 {
-		t.Fatalf("leg %s has no operating wavelength", l.Label())
-	}
-	x := &l.Losses[j]
+	r, x := testplan.DemoOperatingLoss(t)
 	x.FieldLimitDB, x.CablingLimitDB, x.FieldLimitBy, x.AttenuatorDB = 2.6, 3.087, "10GBASE-SR", 5
 	b, err := Plan(context.Background(), r, Options{})
 	if err != nil {
