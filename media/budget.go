@@ -1,6 +1,7 @@
 package media
 
 import (
+	"fmt"
 	"math"
 	"slices"
 )
@@ -55,6 +56,34 @@ func (e *Engine) requiredMarginDB(m *Medium, repair int) float64 {
 		return 0
 	}
 	return roundDB(max(class+float64(repair)*e.design.SpliceDB, e.opt.LossMarginDB))
+}
+
+// marginBasis says in words what requiredMarginDB(m, repair) is made of, for reasons: the
+// plan's loss_margin_db when it is the larger; otherwise the class's margin with the repair
+// splices at the design splice loss ("0.5 dB + 3 repair splices of 0.3 dB"), or the class's
+// margin alone; "" for copper.
+func (e *Engine) marginBasis(m *Medium, repair int) string {
+	var class float64
+	var name string
+	switch m.Kind {
+	case KindMultimode:
+		class, name = e.margins.MultimodeDB, "the catalog's multimode margin"
+	case KindSinglemode:
+		class, name = e.margins.SinglemodeDB, "the catalog's single-mode margin"
+	default:
+		return ""
+	}
+	if e.opt.LossMarginDB > roundDB(class+float64(repair)*e.design.SpliceDB) {
+		return "the plan's loss_margin_db"
+	}
+	if repair == 0 {
+		return name
+	}
+	splices := "repair splices"
+	if repair == 1 {
+		splices = "repair splice"
+	}
+	return fmt.Sprintf("%s dB + %d %s of %s dB", formatNum(class), repair, splices, formatNum(e.design.SpliceDB))
 }
 
 // attenuatorFor is the smallest attenuator the price book prices of at least needDB dB, with
@@ -139,6 +168,8 @@ func (e *Engine) budgetFor(k *Construction, a *Application, reaches []Reach, cha
 			x.LimitDB = b.r.MaxLossDB
 			x.MarginDB = roundDB(x.LimitDB - x.LossDB)
 			x.RequiredMarginDB = requiredDB
+			x.FieldLimitDB, x.FieldLimitBy = x.CablingLimitDB, FieldLimitByCabling
+			x.accept(a.Name, x.LimitDB, x.AttenuatorDB)
 		}
 	}
 	return b

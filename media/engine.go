@@ -444,6 +444,7 @@ func (e *Engine) evaluate(c *candidate, l Link, at lengths, mi, ai, ki int, insi
 	f[fAttenuatorDB].num = float64(c.b.attDB)
 	f[fOverloadDB].num = c.b.overloadDB
 	f[fRepairSplices].num = float64(c.repair)
+	f[fLossMarginBasis].str = e.marginBasis(m, c.repair)
 	e.future(l, c)
 	for ri, rule := range e.rules.Rules {
 		if !rule.appliesTo(m) {
@@ -477,6 +478,9 @@ func (e *Engine) evaluate(c *candidate, l Link, at lengths, mi, ai, ki int, insi
 
 // future fills the future_* facts: whether some application at the future rate on the same
 // medium and construction reaches the channel and closes its budget with the plan's margin.
+// When one does, its channel insertion loss (less its attenuator) also bounds the field
+// limits of the candidate's losses at its wavelengths (Loss.accept): the link is accepted
+// for the rate it is planned to carry later too.
 func (e *Engine) future(l Link, c *candidate) {
 	f := &c.f
 	f[fFutureApplication].str = "none"
@@ -487,6 +491,7 @@ func (e *Engine) future(l Link, c *candidate) {
 	channel := c.f[fChannelM].num
 	var best *Application
 	var bestR Reach
+	var bestLosses []Loss
 	bestMargin, bestScore := 0.0, -1
 	for _, a := range e.cat.Applications {
 		rs := e.reachesOn(a, c.m)
@@ -507,7 +512,7 @@ func (e *Engine) future(l Link, c *candidate) {
 		}
 		if score > bestScore || (score == bestScore && score == 0 && r.RangeM > bestR.RangeM) ||
 			(score == bestScore && score == 1 && margin > bestMargin) {
-			best, bestR, bestMargin, bestScore = a, r, margin, score
+			best, bestR, bestMargin, bestScore, bestLosses = a, r, margin, score, b.losses
 		}
 	}
 	if best == nil {
@@ -520,6 +525,13 @@ func (e *Engine) future(l Link, c *candidate) {
 	switch bestScore {
 	case 2:
 		f[fFutureFits].b = true
+		for _, fx := range bestLosses {
+			for j := range c.losses {
+				if x := &c.losses[j]; fx.Operating && x.WavelengthNM == fx.WavelengthNM {
+					x.accept(best.Name, fx.LimitDB, fx.AttenuatorDB)
+				}
+			}
+		}
 	case 1:
 		f[fFutureNote].str = fmt.Sprintf("%s leaves a loss margin of %s dB, below the required %s dB, or overloads its receiver",
 			best.Name, formatNum(bestMargin), formatNum(c.b.requiredDB))
@@ -751,7 +763,7 @@ func (e *Engine) choose(l Link) Choice {
 		ch.Code = CodeNoMedium
 		return ch
 	}
-	ch.Reason, ch.Code = e.reason(l, win, ok)
+	ch.Reason, ch.Code = e.reason(l, win, ok, all)
 	return ch
 }
 
@@ -924,8 +936,9 @@ func (e *Engine) preferRule(i int) *Rule {
 }
 
 // reason is the one-sentence explanation of a choice and its code: CodeOnly, CodeCheapest or
-// CodePreferred.
-func (e *Engine) reason(l Link, win *candidate, ok []*candidate) (string, string) {
+// CodePreferred; then, for each application at the rate on the winner's medium that would
+// cost less but no laying of which is feasible, why it was refused (refusedApps).
+func (e *Engine) reason(l Link, win *candidate, ok, all []*candidate) (string, string) {
 	var b strings.Builder
 	code := CodeOnly
 	fmt.Fprintf(&b, "%s with %s on %s ", win.m.ID, win.a.Name, win.label())
@@ -948,12 +961,69 @@ func (e *Engine) reason(l Link, win *candidate, ok []*candidate) (string, string
 	}
 	fmt.Fprintf(&b, " for a %s m channel", formatNum(l.ChannelM()))
 	if w, found := worstLoss(win.losses); found {
-		fmt.Fprintf(&b, ", loss %s dB against %s dB at %d nm (margin %s dB)", formatNum(w.LossDB), formatNum(w.LimitDB),
-			w.WavelengthNM, formatNum(w.MarginDB))
+		fmt.Fprintf(&b, ", loss %s dB", formatNum(w.LossDB))
+		if w.AttenuatorDB > 0 {
+			fmt.Fprintf(&b, " (a %s dB fixed attenuator at each receiver included)", formatNum(w.AttenuatorDB))
+		}
+		fmt.Fprintf(&b, " against %s dB at %d nm (margin %s dB)", formatNum(w.LimitDB), w.WavelengthNM, formatNum(w.MarginDB))
 	} else {
 		fmt.Fprintf(&b, ", within its %s m reach", formatNum(win.r.RangeM))
 	}
+	for _, why := range e.refusedApps(l, win, ok, all) {
+		b.WriteString("; ")
+		b.WriteString(why)
+	}
 	return b.String(), code
+}
+
+// refusedApps says, for each other application at the link's rate on the winner's medium
+// that would cost less than the winner but was refused, why: "10GBASE-LR, 2,140.00 USD less,
+// rejected by loss-budget: …" with the rule's reason. It judges the application on the
+// winner's laying (construction and transition), which the winner's numbers are for: refused
+// there, it is named, and where it is feasible on another laying at a higher cost that is
+// said too; feasible there, it lost on price or preference and is not named. An application
+// with no candidate on the winner's laying is judged by its candidate that fails the fewest
+// rules, and named only when it has no feasible one at all.
+func (e *Engine) refusedApps(l Link, win *candidate, ok, all []*candidate) []string {
+	var out []string
+	for ai, a := range e.cat.Applications {
+		if ai == win.ai {
+			continue
+		}
+		var pick *candidate
+		for _, c := range all {
+			if c.mi == win.mi && c.ai == ai && c.ki == win.ki && c.inside == win.inside {
+				pick = c
+			}
+		}
+		i := slices.IndexFunc(ok, func(c *candidate) bool { return c.mi == win.mi && c.ai == ai })
+		if pick == nil && i < 0 {
+			for _, c := range all {
+				if c.mi == win.mi && c.ai == ai && (pick == nil || c.nFailed < pick.nFailed) {
+					pick = c
+				}
+			}
+		}
+		if pick == nil || pick.failed < 0 {
+			continue
+		}
+		// Its cost as Choose would price it, on a copy: cost sets the candidate's labour.
+		cp := *pick
+		channel := pick.f[fChannelM].num
+		_, cents := e.cost(&cp, channel, l.transitionInsideM(channel))
+		if cents >= win.costCents {
+			continue
+		}
+		rule := e.rules.Rules[pick.failed]
+		why := fmt.Sprintf("%s, %s %s less, rejected by %s: %s", a.Name, FormatCents(win.costCents-cents),
+			e.prices.Currency, rule.ID, rule.reason.render(pick.f[:]))
+		if i >= 0 { // ok is sorted: its first candidate of a is a's best
+			why += fmt.Sprintf(", and is feasible on %s at %s %s more than %s", ok[i].label(), FormatCents(ok[i].costCents-win.costCents),
+				e.prices.Currency, win.a.Name)
+		}
+		out = append(out, why)
+	}
+	return out
 }
 
 // feasibleAt reports whether medium mi carries l at channelM metres with some application

@@ -63,6 +63,7 @@ const (
 	fOverloadDB
 	fRepairSplices
 	fCable
+	fLossMarginBasis
 	nFacts
 )
 
@@ -126,6 +127,7 @@ var facts = [nFacts]Fact{
 	fOverloadDB:               numFact("overload_db", "how far the channel, attenuator included, stays below min_loss_db, in dB; 0 when the receiver is safe"),
 	fRepairSplices:            numFact("repair_splices", "repair splices allowed for in loss_margin_db: single-mode outside plant, per km (catalog margins)"),
 	fCable:                    strFact("cable", "the cable laid, for reasons: construction, or with a transition e.g. \"osp-loose-tube spliced to ofnr-riser at both entrances\""),
+	fLossMarginBasis:          strFact("loss_margin_basis", "what loss_margin_db is made of, for reasons: e.g. \"0.5 dB + 3 repair splices of 0.3 dB\", \"the catalog's multimode margin\" or \"the plan's loss_margin_db\"; \"\" for copper"),
 }
 
 var factIndex = func() map[string]int {

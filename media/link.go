@@ -72,18 +72,44 @@ type Loss struct {
 	LossDB       float64 // cabled attenuation × length + connections + splices
 	LimitDB      float64 // the application's maximum channel insertion loss; 0 when !Operating
 	MarginDB     float64 // LimitDB − LossDB; 0 when !Operating
-	FieldLimitDB float64 // acceptance limit for a loss test set on the installed link (TIA-568.3-D Tier 1)
-	Operating    bool    // the application transmits at this wavelength
+	// FieldLimitDB is the acceptance limit for a loss test set on the installed link (the
+	// cabling, tested without the attenuator): the lesser of CablingLimitDB and, where an
+	// application the link is planned for (its application, and the one that carries its
+	// future rate) transmits at this wavelength, that application's channel insertion loss
+	// less the attenuator the plan puts at its receiver. FieldLimitBy says which decides.
+	FieldLimitDB float64
+	// CablingLimitDB is the generic link limit of ANSI/TIA-568.3-D (Tier 1): the catalog's
+	// maximum cabled attenuation × length, 0.75 dB per mated pair and 0.3 dB per splice.
+	CablingLimitDB float64
+	// FieldLimitBy names what sets FieldLimitDB: FieldLimitByCabling, or the IEEE 802.3
+	// application whose channel insertion loss is below the cabling limit, e.g. "10GBASE-SR".
+	FieldLimitBy string
+	Operating    bool // the application transmits at this wavelength
 
-	// The counts LossDB and FieldLimitDB are built from: mated connector pairs, and splices
+	// The counts LossDB and CablingLimitDB are built from: mated connector pairs, and splices
 	// (termination pigtails, entrance transitions and mid-span joins).
 	Pairs, Splices int
-	// AttenuatorDB is the fixed attenuator at the receiver, in LossDB where Operating and not
-	// in FieldLimitDB (the cabling is tested without it); 0 without one.
+	// AttenuatorDB is the fixed attenuator at the receiver, in LossDB where Operating; the
+	// cabling is tested without it, so FieldLimitDB leaves it out of the application's
+	// allowance instead; 0 without one.
 	AttenuatorDB float64
 	// RequiredMarginDB is the margin this link must keep (its class's margin and repair-splice
 	// allowance, or the plan's margin when larger), where Operating; 0 elsewhere.
 	RequiredMarginDB float64
+}
+
+// FieldLimitByCabling is Loss.FieldLimitBy where the generic link limit of ANSI/TIA-568.3-D
+// decides: no application the link is planned for tolerates less at that wavelength.
+const FieldLimitByCabling = "TIA-568.3-D"
+
+// accept lowers the field limit to what application app leaves to the cabling, when that is
+// less: its channel insertion loss limitDB less attDB of attenuator at its receiver (the
+// attenuator is in the channel in service but not in the link under test). On a tie the
+// cabling limit is named.
+func (x *Loss) accept(app string, limitDB, attDB float64) {
+	if v := roundDB(limitDB - attDB); v < x.FieldLimitDB {
+		x.FieldLimitDB, x.FieldLimitBy = v, app
+	}
 }
 
 // Rejection says why one candidate medium was not chosen.

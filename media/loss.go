@@ -1,6 +1,9 @@
 package media
 
-import "math"
+import (
+	"math"
+	"slices"
+)
 
 // LossDB is the insertion loss of a fibre channel in dB: cabled attenuation attenDBPerKm
 // (dB/km) over lengthM metres, plus pairs mated connector pairs of pairDB each and splices
@@ -40,25 +43,29 @@ type Connections struct {
 // medium is r. It reports every wavelength at which k has an attenuation, ascending: for
 // multimode 850 and 1300 nm, for single-mode 1310 and 1550 nm, the wavelengths an installed
 // link is tested at. At a's operating wavelengths Operating is true and LimitDB and MarginDB
-// are set; elsewhere they are 0. LossDB uses the design connection losses, FieldLimitDB the
-// acceptance ones (the catalog's ANSI/TIA-568.3-D maxima). It returns nil for copper.
+// are set; elsewhere they are 0. LossDB uses the design connection losses, CablingLimitDB the
+// acceptance ones (the catalog's ANSI/TIA-568.3-D maxima); FieldLimitDB is the lesser of
+// that and, at a's operating wavelengths, r's channel insertion loss (no attenuator; see
+// Loss.FieldLimitDB). It returns nil for copper.
 func Losses(k *Construction, a *Application, r Reach, lengthM float64, pairs, splices int, design, field Connections) []Loss {
 	if len(k.Attenuation) == 0 {
 		return nil
 	}
 	out := make([]Loss, 0, len(k.Attenuation))
 	for _, at := range k.Attenuation {
+		cabling := roundDB(LossDB(at.DBPerKm, lengthM, pairs, splices, field.PairDB, field.SpliceDB))
 		l := Loss{
-			WavelengthNM: at.WavelengthNM,
-			LossDB:       roundDB(LossDB(at.DBPerKm, lengthM, pairs, splices, design.PairDB, design.SpliceDB)),
-			FieldLimitDB: roundDB(LossDB(at.DBPerKm, lengthM, pairs, splices, field.PairDB, field.SpliceDB)),
+			WavelengthNM:   at.WavelengthNM,
+			LossDB:         roundDB(LossDB(at.DBPerKm, lengthM, pairs, splices, design.PairDB, design.SpliceDB)),
+			FieldLimitDB:   cabling,
+			CablingLimitDB: cabling,
+			FieldLimitBy:   FieldLimitByCabling,
 		}
-		for _, nm := range a.WavelengthsNM {
-			if nm == at.WavelengthNM {
-				l.Operating = true
-				l.LimitDB = r.MaxLossDB
-				l.MarginDB = roundDB(r.MaxLossDB - l.LossDB)
-			}
+		if slices.Contains(a.WavelengthsNM, at.WavelengthNM) {
+			l.Operating = true
+			l.LimitDB = r.MaxLossDB
+			l.MarginDB = roundDB(r.MaxLossDB - l.LossDB)
+			l.accept(a.Name, r.MaxLossDB, 0)
 		}
 		out = append(out, l)
 	}

@@ -292,6 +292,7 @@ func linksCSV(out io.Writer, r *route.Result, opt WriteOptions) error {
 	head = append(head, passageHead...)
 	head = append(head, "reason_code")
 	head = append(head, scheduleHead(opt)...)
+	head = append(head, acceptanceHead()...)
 	w.Write(head)
 	db := func(x float64) string { return strconv.FormatFloat(x, 'f', 2, 64) }
 	for i := range r.Legs {
@@ -324,9 +325,38 @@ func linksCSV(out io.Writer, r *route.Result, opt WriteOptions) error {
 			media.FormatCents(c.ConstructionCents), media.FormatCents(c.OpticsCents), InUnits(opt, l.Explain()))
 		row = append(row, passageText(l, tr)...)
 		row = append(row, l.ReasonCode)
-		w.Write(append(row, scheduleOf(r, i).text(opt)...))
+		row = append(row, scheduleOf(r, i).text(opt)...)
+		w.Write(append(row, acceptanceText(l)...))
 	}
 	return w.Flush()
+}
+
+// acceptanceHead names links.csv's columns after the cable schedule: what decides each
+// wavelength's field limit (field_limit_…_db), then the margin the leg must keep, beside
+// margin_db's worth of it, and the fixed attenuator at each receiver, which the operating
+// wavelengths' loss_…_db include.
+func acceptanceHead() []string {
+	var head []string
+	for _, nm := range routing.Wavelengths {
+		head = append(head, fmt.Sprintf("field_limit_by_%d", nm))
+	}
+	return append(head, "required_margin_db", "attenuator_db")
+}
+
+// acceptanceText is leg l's acceptanceHead columns: per wavelength media.Loss.FieldLimitBy
+// ("TIA-568.3-D" or the application; "" where the leg has no loss there), then the worst
+// operating wavelength's RequiredMarginDB, which margin_db is held to, and its AttenuatorDB
+// at each receiver (0 without one); both "" without a loss budget.
+func acceptanceText(l *routing.Leg) []string {
+	var row []string
+	for _, nm := range routing.Wavelengths {
+		x, _ := l.LossAt(nm)
+		row = append(row, x.FieldLimitBy)
+	}
+	if w, ok := l.WorstLoss(); ok {
+		return append(row, strconv.FormatFloat(w.RequiredMarginDB, 'f', 2, 64), strconv.FormatFloat(w.AttenuatorDB, 'f', -1, 64))
+	}
+	return append(row, "", "")
 }
 
 // metresText finds a length in metres in a text of the rules ("a 247.41 m channel").

@@ -67,6 +67,7 @@ func mediumOf(cat *media.Catalog, id string) mediumInfo {
 
 type lossCell struct {
 	Text      string
+	Field     string // the field test limit there (media.Loss.FieldLimitDB); "" without a loss
 	Operating bool
 }
 
@@ -93,11 +94,14 @@ type legRow struct {
 	Route, Lat, Riser string
 	Losses            []lossCell
 	Limit, Margin     string
-	Bar               *marginBar
-	Cost              string
-	Reason            string
-	Rejected          []string
-	Pathways          string
+	// Acceptance says, under the reason, which field test limits an application sets below
+	// the ANSI/TIA-568.3-D link limit and the attenuator the loss includes; "" when neither.
+	Acceptance string
+	Bar        *marginBar
+	Cost       string
+	Reason     string
+	Rejected   []string
+	Pathways   string
 	// EntranceFrom and EntranceTo are the entrances used at From and To; Crosses the
 	// buildings the route passes through and Turns the junctions where it turns at a
 	// handhole the plan adds, in travel order.
@@ -797,11 +801,12 @@ func legRowOf(r *route.Result, l *routing.Leg, opt Options, med map[string]mediu
 		c := lossCell{}
 		for _, x := range l.Losses {
 			if x.WavelengthNM == nm {
-				c = lossCell{Text: dB(x.LossDB), Operating: x.Operating}
+				c = lossCell{Text: dB(x.LossDB), Field: dB(x.FieldLimitDB), Operating: x.Operating}
 			}
 		}
 		row.Losses = append(row.Losses, c)
 	}
+	row.Acceptance = acceptanceOf(l.Losses)
 	var worst *media.Loss
 	for k := range l.Losses {
 		x := &l.Losses[k]
@@ -828,6 +833,32 @@ func legRowOf(r *route.Result, l *routing.Leg, opt Options, med map[string]mediu
 		row.Bar = b
 	}
 	return row
+}
+
+// acceptanceOf is the links table's line on a leg's acceptance: the wavelengths whose field
+// test limit an application sets below the ANSI/TIA-568.3-D link limit, with both figures,
+// and the fixed attenuator at each receiver that the loss includes; "" when there is neither.
+func acceptanceOf(losses []media.Loss) string {
+	var parts []string
+	att := 0.0
+	for _, x := range losses {
+		if x.FieldLimitBy != "" && x.FieldLimitBy != media.FieldLimitByCabling {
+			parts = append(parts, fmt.Sprintf("at %d nm %s dB, set by %s (ANSI/TIA-568.3-D link limit %s dB)",
+				x.WavelengthNM, dB(x.FieldLimitDB), x.FieldLimitBy, dB(x.CablingLimitDB)))
+		}
+		if x.Operating {
+			att = max(att, x.AttenuatorDB)
+		}
+	}
+	var out []string
+	if len(parts) > 0 {
+		out = append(out, "Field test limit "+strings.Join(parts, "; ")+".")
+	}
+	if att > 0 {
+		out = append(out, fmt.Sprintf("The loss includes a %s dB fixed attenuator at each receiver; the link is tested without it.",
+			strconv.FormatFloat(att, 'f', -1, 64)))
+	}
+	return strings.Join(out, " ")
 }
 
 // fillRows lists the spans whose ducts limit the fill, those over the NFPA 70 Chapter 9
@@ -1244,11 +1275,15 @@ func (l legRow) HTML(span int) template.HTML {
 	td(&p, "n", l.Riser)
 	p.w("\n")
 	for _, c := range l.Losses {
+		class := markup("n")
 		if c.Operating {
-			td(&p, "n op", c.Text)
-		} else {
-			td(&p, "n", c.Text)
+			class = "n op"
 		}
+		p.w(`<td class="`, class, `">`, t(c.Text))
+		if c.Field != "" {
+			p.w(`<br><span class="small field">≤ `, t(c.Field), "</span>")
+		}
+		p.w("</td>")
 	}
 	p.w("\n")
 	td(&p, "n", l.Limit)
@@ -1265,6 +1300,9 @@ func (l legRow) HTML(span int) template.HTML {
 		p.w("<b>Infeasible:</b> ")
 	}
 	p.w(t(l.Reason), "</span>")
+	if l.Acceptance != "" {
+		p.w(`<br><span class="small acceptance">`, t(l.Acceptance), "</span>")
+	}
 	if len(l.Rejected) > 0 {
 		p.w(`<br><span class="small">Not chosen: `, t(strings.Join(l.Rejected, "; ")), ".</span>")
 	}

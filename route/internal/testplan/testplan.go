@@ -89,6 +89,20 @@ func DemoResult(t testing.TB) *route.Result {
 	return SolvePlan(t, s, p)
 }
 
+// DemoOperatingLoss plans the demo and returns the result and the loss of its first leg at
+// that leg's first operating wavelength, for a test to change by hand; it fails t when there
+// is none.
+func DemoOperatingLoss(t testing.TB) (*route.Result, *media.Loss) {
+	t.Helper()
+	r := DemoResult(t)
+	l := &r.Legs[0]
+	j := slices.IndexFunc(l.Losses, func(x media.Loss) bool { return x.Operating })
+	if j < 0 {
+		t.Fatalf("leg %s has no operating wavelength", l.Label())
+	}
+	return r, &l.Losses[j]
+}
+
 // SolvePlan plans p on site s with p's own engine, failing t on an error.
 func SolvePlan(tb testing.TB, s *site.Site, p *plan.Plan) *route.Result {
 	tb.Helper()

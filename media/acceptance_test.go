@@ -1,0 +1,146 @@
+package media
+
+import (
+	"math"
+	"slices"
+	"strings"
+	"testing"
+)
+
+// TestFieldLimitFutureRate: a link planned at 1 Gb/s that must carry 10 Gb/s later is
+// accepted for 10 Gb/s too. 250 m of OM3 channel: ANSI/TIA-568.3-D link limit at 850 nm
+// 0.25 km x 3.5 dB/km + 2 x 0.75 + 2 x 0.3 = 2.975 dB (from memory, REFERENCES.md);
+// 1000BASE-SX allows 3.56 dB (IEEE 802.3 Clause 38, seen), 10GBASE-SR on OM3 2.6 dB (IEEE
+// 802.3 Clause 52, from memory, REFERENCES.md), so 10GBASE-SR sets the field limit, 2.6 dB,
+// though the link runs 1000BASE-SX today. At 1300 nm no application of the two operates: the
+// link limit, 0.25 x 1.5 + 2.1 = 2.475 dB.
+func TestFieldLimitFutureRate(t *testing.T) {
+	t.Parallel()
+	c := DefaultCatalog()
+	c.Media = slices.DeleteFunc(c.Media, func(m *Medium) bool { return m.ID != "om3" })
+	e := newEngine(t, c, nil, EngineOptions{})
+	l := Link{ID: "F", RouteM: 230, RiserM: 10, SlackM: 10, RateGbps: 1, FutureRateGbps: 10, ConnectorPairs: 2, Strands: 2}
+	ch := e.Choose(l)
+	if !ch.Feasible || ch.Application != "1000BASE-SX" {
+		t.Fatalf("1000BASE-SX on 250 m of OM3 with a future 10 Gb/s: %s", ch.Reason)
+	}
+	want := map[int]struct {
+		limitDB, cablingDB float64
+		by                 string
+	}{850: {2.6, 2.975, "10GBASE-SR"}, 1300: {2.475, 2.475, FieldLimitByCabling}}
+	for _, x := range ch.Losses {
+		w := want[x.WavelengthNM]
+		if math.Abs(x.FieldLimitDB-w.limitDB) > 1e-9 || math.Abs(x.CablingLimitDB-w.cablingDB) > 1e-9 || x.FieldLimitBy != w.by {
+			t.Errorf("%d nm: field limit %.3f dB by %s (cabling %.3f), want %.3f by %s (cabling %.3f)",
+				x.WavelengthNM, x.FieldLimitDB, x.FieldLimitBy, x.CablingLimitDB, w.limitDB, w.by, w.cablingDB)
+		}
+	}
+	// Without the future rate 1000BASE-SX's 3.56 dB is above the link limit, which decides.
+	l.FutureRateGbps = 0
+	for _, x := range e.Choose(l).Losses {
+		if x.FieldLimitBy != FieldLimitByCabling || x.FieldLimitDB != x.CablingLimitDB {
+			t.Errorf("%d nm without the future rate: field limit %.3f by %s, want the link limit %.3f", x.WavelengthNM, x.FieldLimitDB, x.FieldLimitBy, x.CablingLimitDB)
+		}
+	}
+}
+
+// TestFieldLimitLessAttenuator: the attenuator at the receiver uses up part of the
+// application's channel insertion loss in service, though the link is tested without it, so
+// the field limit the application sets is its loss limit less the attenuator. 10GBASE-ER's
+// receiver takes at least 5 dB (IEEE 802.3 Clause 52, Tables 52-16 and 52-17, seen in a vendor
+// manual), here with a synthetic channel insertion loss of 6 dB (not IEEE's 11 dB, so that the
+// application decides) over 2 km of outside-plant single-mode at 1550 nm: design 2 x 0.5 dB/km
+// (ANSI/TIA-568.3-D maximum, from memory) + 2 x 0.5 + 2 x 0.3 = 2.6 dB, 2.4 dB short of 5, so the
+// demo book's 3 dB attenuator; link limit 1.0 + 2 x 0.75 + 0.6 = 3.1 dB (ANSI/TIA-568.3-D,
+// from memory); the application leaves 6 − 3 = 3.0 dB, which sets the field limit.
+func TestFieldLimitLessAttenuator(t *testing.T) {
+	t.Parallel()
+	c := DefaultCatalog()
+	e := newEngine(t, c, nil, EngineOptions{})
+	er := c.Application("10GBASE-ER")
+	k := c.Medium("os2").Construction("osp-loose-tube")
+	b := e.budgetFor(k, er, []Reach{{RangeM: 40000, MaxLossDB: 6}}, 2000, 2, 2, 0.5)
+	if b.attDB != 3 {
+		t.Fatalf("attenuator %d dB, want 3", b.attDB)
+	}
+	x := b.losses[slices.IndexFunc(b.losses, func(x Loss) bool { return x.WavelengthNM == 1550 })]
+	if x.LossDB != 5.6 || x.CablingLimitDB != 3.1 || x.FieldLimitDB != 3 || x.FieldLimitBy != "10GBASE-ER" {
+		t.Errorf("1550 nm: loss %.3f, cabling limit %.3f, field limit %.3f by %s; want 5.6, 3.1, 3.0 by 10GBASE-ER",
+			x.LossDB, x.CablingLimitDB, x.FieldLimitDB, x.FieldLimitBy)
+	}
+	// With IEEE's 11 dB the application leaves 8 dB: the link limit decides.
+	b = e.budgetFor(k, er, []Reach{{RangeM: 40000, MaxLossDB: 11}}, 2000, 2, 2, 0.5)
+	x = b.losses[slices.IndexFunc(b.losses, func(x Loss) bool { return x.WavelengthNM == 1550 })]
+	if x.FieldLimitDB != 3.1 || x.FieldLimitBy != FieldLimitByCabling {
+		t.Errorf("1550 nm, 11 dB: field limit %.3f by %s, want 3.1 by TIA-568.3-D", x.FieldLimitDB, x.FieldLimitBy)
+	}
+}
+
+// TestRefusedApplicationNamed: within the chosen medium, a cheaper application refused is
+// named with its rule and numbers (tester 8, finding 5). 6,100 m of single-mode channel, 16 m
+// of it inside the end buildings (8 m each, within NFPA 70 770.48's 15 m, so outside-plant
+// cable runs to the panels): 6,084 m of outside plant takes ceil(6.084 × 0.5) = 4 repair
+// splices (catalog margins, common practice, no published source), so the margin required is
+// 0.5 + 4 × 0.3 = 1.7 dB. 10GBASE-LR at 1310 nm loses 6.1 km × 0.5 dB/km (ANSI/TIA-568.3-D
+// outside plant, from memory) + 2 × 0.5 + 2 × 0.3 = 4.65 dB against 6.2 dB (IEEE 802.3 Clause
+// 52, seen): margin 1.55 dB, refused. 10GBASE-ER loses the same 4.65 dB at 1550 nm, under its
+// receiver's 5 dB (IEEE 802.3 Clause 52, seen), so takes the demo book's 3 dB attenuator at
+// each receiver: 7.65 dB against 11 dB. The demo book's optics: LR 45.00, ER 190.00 and the
+// attenuator 16.00 (invented), so LR would cost 2 × 145 + 2 × 16 = 322.00 USD less.
+func TestRefusedApplicationNamed(t *testing.T) {
+	t.Parallel()
+	c := DefaultCatalog()
+	c.Media = slices.DeleteFunc(c.Media, func(m *Medium) bool { return m.ID != "os2" })
+	e := newEngine(t, c, nil, EngineOptions{})
+	l := Link{ID: "R", RouteM: 6074, RiserM: 10, SlackM: 16, RateGbps: 10, Outdoor: true, ConnectorPairs: 2, Strands: 2,
+		InsideAM: 8, InsideBM: 8, PathwayTypes: []string{"duct"}}
+	ch := e.Choose(l)
+	if !ch.Feasible || ch.Application != "10GBASE-ER" {
+		t.Fatalf("10GBASE-ER on 6.1 km: %s", ch.Reason)
+	}
+	want := "10GBASE-LR, 322.00 USD less, rejected by loss-budget: 10GBASE-LR on osp-loose-tube loses 4.65 dB at 1310 nm against a limit of 6.2 dB; " +
+		"margin 1.55 dB is below the required 1.7 dB (0.5 dB + 4 repair splices of 0.3 dB)"
+	if !strings.Contains(ch.Reason, want) {
+		t.Errorf("reason %q\nwant it to hold %q", ch.Reason, want)
+	}
+	if w, _ := worstLoss(ch.Losses); w.RequiredMarginDB != 1.7 {
+		t.Errorf("required margin %.3f dB, want 1.7", w.RequiredMarginDB)
+	}
+	// 5 km: LR closes (4.1 dB, margin 2.1 against 0.5 + 3 × 0.3 = 1.4) and is chosen; no
+	// application is refused, so none is named.
+	l.RouteM = 4974
+	ch = e.Choose(l)
+	if ch.Application != "10GBASE-LR" || strings.Contains(ch.Reason, "10GBASE-ER,") {
+		t.Errorf("5 km: %s, want 10GBASE-LR and no other application named: %s", ch.Application, ch.Reason)
+	}
+}
+
+// TestMarginBasis: the words for the required margin, as the loss-budget rule shows them.
+// The catalog's margins (common practice, no published source): multimode 0 dB, single-mode
+// 0.5 dB plus 0.3 dB per repair splice (design splice loss, common practice).
+func TestMarginBasis(t *testing.T) {
+	t.Parallel()
+	c := DefaultCatalog()
+	e := newEngine(t, c, nil, EngineOptions{})
+	floor := newEngine(t, c, nil, EngineOptions{LossMarginDB: 1})
+	os2, om3, cat6a := c.Medium("os2"), c.Medium("om3"), c.Medium("cat6a")
+	for _, tc := range []struct {
+		name string
+		e    *Engine
+		m    *Medium
+		n    int
+		want string
+	}{
+		{"multimode", e, om3, 0, "the catalog's multimode margin"},
+		{"single-mode inside", e, os2, 0, "the catalog's single-mode margin"},
+		{"one repair splice", e, os2, 1, "0.5 dB + 1 repair splice of 0.3 dB"},
+		{"three repair splices", e, os2, 3, "0.5 dB + 3 repair splices of 0.3 dB"},
+		{"plan floor above the policy", floor, os2, 1, "the plan's loss_margin_db"},
+		{"policy above the plan floor", floor, os2, 2, "0.5 dB + 2 repair splices of 0.3 dB"},
+		{"copper", e, cat6a, 0, ""},
+	} {
+		if got := tc.e.marginBasis(tc.m, tc.n); got != tc.want {
+			t.Errorf("%s: got %q, want %q", tc.name, got, tc.want)
+		}
+	}
+}

@@ -1,0 +1,39 @@
+package report
+
+import (
+	"context"
+	"strconv"
+	"strings"
+	"testing"
+
+	"spanwright/route/internal/testplan"
+)
+
+// TestPlanAcceptance: the links table shows each wavelength's field test limit under its loss
+// and, under the reason, the field limits an application sets below the ANSI/TIA-568.3-D link
+// limit and the attenuator the loss includes. One demo leg is given by hand a 10GBASE-SR
+// field limit at 850 nm of 2.6 dB against a link limit of 3.087 dB (IEEE 802.3 Clause 52 on
+// OM3, from memory; ANSI/TIA-568.3-D, from memory: tester 8's ADM-CHM) and a 5 dB attenuator.
+func TestPlanAcceptance(t *testing.T) {
+	t.Parallel()
+	r, x := testplan.DemoOperatingLoss(t)
+	x.FieldLimitDB, x.CablingLimitDB, x.FieldLimitBy, x.AttenuatorDB = 2.6, 3.087, "10GBASE-SR", 5
+	b, err := Plan(context.Background(), r, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	html := string(b)
+	for _, want := range []string{
+		`<span class="small field">≤ 2.60</span>`,
+		`Field test limit at ` + strconv.Itoa(x.WavelengthNM) + ` nm 2.60 dB, set by 10GBASE-SR (ANSI/TIA-568.3-D link limit 3.09 dB). The loss includes a 5 dB fixed attenuator at each receiver; the link is tested without it.`,
+		`<span class="small">field limit</span>`,
+	} {
+		if !strings.Contains(html, want) {
+			t.Errorf("report lacks %q", want)
+		}
+	}
+	// Every other leg: limited by ANSI/TIA-568.3-D, no attenuator, so no such line.
+	if n := strings.Count(html, `class="small acceptance"`); n != 1 {
+		t.Errorf("%d acceptance lines, want 1", n)
+	}
+}
