@@ -53,12 +53,10 @@ type Model struct {
 	design      plan.Design
 	allowedMemo map[allowedKey]bool
 	cableMemo   map[cableKey]cabled
-	// laysMemo, layingMemo and layingPrices remember lays, layingFor and the prices of the
-	// layings it found.
-	laysMemo     map[layingKey]bool
-	layingMemo   map[layingKey]media.Laying
-	layingPrices map[layingKey]media.LayingPrice
-	bidMemo      map[media.BidBases][]media.Quantity // items.BidPer by bases, for the model's book
+	// laysMemo and layingMemo remember lays and layingFor.
+	laysMemo   map[layingKey]bool
+	layingMemo map[layingKey]laid
+	bidMemo    map[media.BidBases][]media.Quantity // items.BidPer by bases, for the model's book
 }
 
 // Edge flags. flagDuct marks a duct edge, so that a cable too large for the design's
@@ -191,7 +189,7 @@ func (m *Model) whyNot(name string, info demandInfo, c spanClass) string {
 	l.RouteM = 1
 	var why []string
 	if lay := info.layings[name]; lay.Construction != "" && m.allowedFor(medium, info, c) {
-		if other, ok := m.layingFor(medium, info, c); ok && other != lay {
+		if other, ok := m.layingFor(medium, info, c); ok && other.laying != lay {
 			return m.eng.WhyNotLaid(medium, lay, info.rate, classFacts(info, c))
 		}
 		l.Outdoor = true // as the option's laying was priced: a route that leaves the buildings
@@ -214,7 +212,7 @@ func (m *Model) whyNot(name string, info demandInfo, c spanClass) string {
 // the optimizer's problem asks of the book are checked by CheckPrices, all at once.
 func NewModel(eng *media.Engine, d plan.Design) *Model {
 	return &Model{eng: eng, prices: eng.PriceBook(), design: d, allowedMemo: map[allowedKey]bool{}, cableMemo: map[cableKey]cabled{},
-		laysMemo: map[layingKey]bool{}, layingMemo: map[layingKey]media.Laying{}, layingPrices: map[layingKey]media.LayingPrice{},
+		laysMemo: map[layingKey]bool{}, layingMemo: map[layingKey]laid{},
 		bidMemo: map[media.BidBases][]media.Quantity{}}
 }
 
@@ -614,7 +612,7 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link, sh *shortest) (op
 		// the book prices may be.
 		base, perM := m.cableFor(med, rate, facts, endSlack)
 		var exclude uint64
-		var others []media.Laying // the layings of the classes the first option may not use, in class order
+		var others []laid // the layings of the classes the first option may not use, in class order, with their prices
 		// Another laying's option is left out when no application at the rate on the medium
 		// reaches the shortest route (addOption): then none is looked for.
 		reaches := m.eng.LongestRangeM(med, rate)-riser-coils-endLoops-lateral >= sh.betweenM(dm.Source, dm.Target)
@@ -627,22 +625,22 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link, sh *shortest) (op
 				if !reaches {
 					continue
 				}
-				if other, ok := m.layingFor(med, info, c); ok && other != base && !slices.Contains(others, other) {
+				if other, ok := m.layingFor(med, info, c); ok && other.laying != base && !slices.ContainsFunc(others, func(o laid) bool { return o.laying == other.laying }) {
 					others = append(others, other)
 				}
 			}
 		}
 		oe := optionEnds{riser: riser, lateral: lateral, coils: coils, endLoops: endLoops,
 			ends: ends, endItems: endItems, entered: entered, legBid: legBid, outside: outside, diverse: l.Diverse, sh: sh}
-		m.addOption(s, &dm, &info, med, base, true, perM, exclude, oe)
+		m.addOption(s, &dm, &info, med, laid{laying: base, price: media.LayingPrice{PerMCents: perM}}, true, exclude, oe)
 		for _, other := range others {
 			var ex uint64
 			for _, c := range lay.classes {
-				if !m.allowed(s, med, rate, future, strands, c) || !m.lays(med, other, info, c) {
+				if !m.allowed(s, med, rate, future, strands, c) || !m.lays(med, other.laying, info, c) {
 					ex |= lay.classBit[c]
 				}
 			}
-			m.addOption(s, &dm, &info, med, other, false, -1, ex, oe)
+			m.addOption(s, &dm, &info, med, other, false, ex, oe)
 		}
 		dropOutpriced(&dm, &info, med, sh)
 	}
@@ -692,12 +690,14 @@ type optionEnds struct {
 	sh                                    *shortest
 }
 
-// addOption adds to dm the option of medium laid as lay (optionName: first, the medium's first
-// option, priced perM cents a metre; another, priced as lay by media.Engine.LayingFor),
-// keeping off the edges of exclude, or lists in info why it cannot be one.
-func (m *Model) addOption(s *site.Site, dm *optimize.Demand, info *demandInfo, med string, lay media.Laying, first bool, perM int64, exclude uint64, e optionEnds) {
+// addOption adds to dm the option of medium laid as l.laying (optionName: first, the medium's
+// first option, priced l.price.PerMCents a metre, cableFor's price; another, priced as
+// layingFor found it), keeping off the edges of exclude, or lists in info why it cannot be
+// one.
+func (m *Model) addOption(s *site.Site, dm *optimize.Demand, info *demandInfo, med string, l laid, first bool, exclude uint64, e optionEnds) {
 	d := m.design
-	facts, rate, future, strands := info.facts, info.rate, info.facts.FutureRateGbps, info.strands
+	facts, rate, future := info.facts, info.rate, info.facts.FutureRateGbps
+	lay, perM := l.laying, l.price.PerMCents
 	name := optionName(med, lay, first)
 	mm := m.eng.Catalog().Medium(med)
 	var maxCh float64
@@ -717,9 +717,8 @@ func (m *Model) addOption(s *site.Site, dm *optimize.Demand, info *demandInfo, m
 			return
 		}
 		maxCh = m.reachM(s, med, lay, rate, future, facts, true)
-		price := m.layingPrices[layingKey{medium: med, laying: lay, strands: strands, rate: rate}]
-		perM = price.PerMCents
 		if lay.Inside != "" {
+			price := l.price
 			// The inside cable in the end buildings instead of the outside-plant cable there,
 			// the enclosures and trays at both entrances and the splicing (media.Engine's cost).
 			insideM := items.Wasted(d, facts.InsideAM+facts.InsideBM)
@@ -751,7 +750,7 @@ func (m *Model) addOption(s *site.Site, dm *optimize.Demand, info *demandInfo, m
 	// The cables a leg pulls side by side and their size: known before routing only up to
 	// the construction the rules pick on the route (cableFit: the largest of those it may
 	// run outdoors), as the bill counts them (CableTakeoff.Fit).
-	od, cables := cableFit(mm, strands, facts.CopperCables)
+	od, cables := cableFit(mm, info.strands, facts.CopperCables)
 	// What the leg takes whatever its path: the cable of its risers, laterals, service coils,
 	// entrance loops and the halves of the structure loops at its ends that its spans leave
 	// out (problem), with waste (perM is all its cables'), and for each cable their pulls
@@ -910,20 +909,23 @@ func (m *Model) lays(medium string, lay media.Laying, info demandInfo, c spanCla
 	return v
 }
 
+// laid is a laying and its prices: layingFor's answer.
+type laid struct {
+	laying media.Laying
+	price  media.LayingPrice
+}
+
 // layingFor is the laying of medium the rules let carry the link over spans of class c at
-// the least cost (media.Engine.LayingFor), remembered per plan with its prices
-// (Model.layingPrices, by the laying).
-func (m *Model) layingFor(medium string, info demandInfo, c spanClass) (media.Laying, bool) {
+// the least cost, with its prices (media.Engine.LayingFor), remembered per plan; ok is false
+// when none may.
+func (m *Model) layingFor(medium string, info demandInfo, c spanClass) (l laid, ok bool) {
 	k := m.layingKeyOf(medium, media.Laying{}, info, c)
 	if v, ok := m.layingMemo[k]; ok {
-		return v, v.Construction != ""
+		return v, v.laying.Construction != ""
 	}
-	lay, price, ok := m.eng.LayingFor(medium, info.rate, classFacts(info, c))
-	m.layingMemo[k] = lay
-	if ok {
-		m.layingPrices[layingKey{medium: medium, laying: lay, strands: info.strands, rate: info.rate}] = price
-	}
-	return lay, ok
+	l.laying, l.price, ok = m.eng.LayingFor(medium, info.rate, classFacts(info, c))
+	m.layingMemo[k] = l
+	return l, ok
 }
 
 // allowedFor is allowed for the demand's medium, rate and strands, as remembered: whether
