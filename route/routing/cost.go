@@ -285,18 +285,17 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 		// structure crosses two of its spans; the halves at a route's two ends are its
 		// demand's (demand).
 		pull, entered := crewHalves(s, sp.From, sp.To)
-		// Handholes along its run, and half of each where it joins the network (a route from
-		// one joining span into another passes that handhole once, half on each; one from the
-		// network into it pays the other half in the plan's evaluation, passGapCents, or, where
-		// the junction is split for turns, its crew share on the turn edge, layout.turnShare).
-		// Each is a structure passed as the campus's are (passesOf): a slack loop, a crew
-		// entry, the bid items per structure passed.
-		hh := float64(len(runHH[sp.ID])) + 0.5*lay.joinEnds(s, i)
-		loops := (items.LoopM(s, d, sp.From)+items.LoopM(s, d, sp.To))/2 + hh*d.SlackLoopStructureM
+		// Handholes along its run, and its share of those where it joins the network
+		// (pricedPasses). Each is a structure passed as the campus's are (passesOf): a slack
+		// loop, a crew entry, the bid items per structure passed.
+		joinLoops, joinCrews := pricedPasses(s, lay, i)
+		along := float64(len(runHH[sp.ID]))
+		loops := (items.LoopM(s, d, sp.From)+items.LoopM(s, d, sp.To))/2 + (along+joinLoops)*d.SlackLoopStructureM
+		crews := along + joinCrews
 		// The loops count in the channel too (the loss budget's), so in the reach (ReachM).
 		e := optimize.Edge{ID: sp.ID, From: int(u), To: int(v), LengthM: sp.LengthM, CableM: items.Wasted(d, sp.LengthM+loops), ReachM: sp.LengthM + loops,
 			PerCableCents: m.cents(items.AlongSpan(d, sp.Type, sp.LengthM)...) + m.cents(items.StructureLoops(loops)...) +
-				m.cents(items.AtJunctions(m.prices, pull+hh, entered+hh)...) + m.bidPer(media.BidBases{Structures: 1}, entered+hh),
+				m.cents(items.AtJunctions(m.prices, pull+crews, entered+crews)...) + m.bidPer(media.BidBases{Structures: 1}, entered+crews),
 			Group: lay.groupOf[sp.Group], Flags: lay.classBit[classOf(sp)]}
 		if sp.Type == geo.TypeDuct {
 			e.Flags |= flagDuct
@@ -330,8 +329,9 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 		}
 		p.Edges[i] = e
 	}
-	for _, x := range lay.extra {
+	for k, x := range lay.extra {
 		e := optimize.Edge{From: x.from, To: x.to}
+		loops, crews := pricedPasses(s, lay, len(net.Spans)+k)
 		switch x.kind {
 		case edgeEntrance:
 			e.ID, e.Group = "entrance "+x.entry.ID+" of "+x.building, x.group
@@ -340,11 +340,12 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 				e.LengthM, e.CableM, e.ReachM = lat, items.Wasted(d, lat), lat
 				e.PerCableCents = m.cents(items.LegEnds(0, 0, lat)...)
 				e.Flags = lay.classBit[lateralClass]
-				if s.TapOf(x.entry) { // the tap's handhole, a structure passed (passesOf)
-					e.CableM += items.Wasted(d, d.SlackLoopStructureM)
-					e.ReachM += d.SlackLoopStructureM
-					e.PerCableCents += m.cents(items.TapCrew(m.prices)...) + m.cents(items.StructureLoops(d.SlackLoopStructureM)...) +
-						m.bidPer(media.BidBases{Structures: 1}, 1)
+				if loops > 0 { // the tap's handhole, a structure passed (passesOf)
+					loopM := loops * d.SlackLoopStructureM
+					e.CableM += items.Wasted(d, loopM)
+					e.ReachM += loopM
+					e.PerCableCents += m.cents(items.AtJunctions(m.prices, crews, crews)...) + m.cents(items.StructureLoops(loopM)...) +
+						m.bidPer(media.BidBases{Structures: 1}, loops)
 				}
 			}
 			if loop := items.LoopM(s, d, x.junction) / 2; loop > 0 {
@@ -365,11 +366,10 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 			// priced in halves rounds to a cent apart, which would let cents of rounding pick
 			// between equal routes (TestStartRoutesRebuildsSolution). The plan's evaluation
 			// prices them on the routes returned (passGapCents; README, "One cost model").
-			share := float64(lay.turnShare(x.from, x.to)) / 2
-			e.ID, e.PerCableCents = "turn at "+x.junction, m.cents(items.AtJunctions(m.prices, share, share)...)
+			e.ID, e.PerCableCents = "turn at "+x.junction, m.cents(items.AtJunctions(m.prices, crews, crews)...)
 			// Its loop is in the channel all the same (its share of it: reach is not priced, so
 			// halves that round apart choose nothing).
-			e.ReachM = share * d.SlackLoopStructureM
+			e.ReachM = crews * d.SlackLoopStructureM
 		}
 		p.Edges = append(p.Edges, e)
 	}
@@ -501,6 +501,44 @@ func prepaidTaps(s *site.Site, lay *layout, links []site.Link) map[string]bool {
 	return out
 }
 
+// pricedPasses is what edge e of the optimizer's problem prices of the passes through
+// handholes at junctions (passesOf), in passes of one cable: the slack loops (with their bid
+// items per structure passed) and the crew's pull set-ups and entries. A span prices half a
+// pass at each end where it joins the network (layout.joinEnds: a route from one joining span
+// into another passes that handhole once, half on each; one from the network into it pays
+// the other half in the plan's evaluation, or, where the junction is split for turns, its
+// crew share on the turn edge); a turn edge its crew share
+// (layout.turnShare) and no loop (problem says why); an entrance edge a whole pass at its
+// lateral's tap (site.Site.TapOf). A route's end taps are its demand's (endTaps). problem
+// prices the edges with it and passGapCents the passes it leaves out, so the two cannot
+// disagree.
+func pricedPasses(s *site.Site, lay *layout, e int) (loops, crews float64) {
+	x, extra := lay.isExtra(len(s.Net.Spans), e)
+	switch {
+	case !extra:
+		n := 0.5 * lay.joinEnds(s, e)
+		return n, n
+	case x.kind == edgeTurn:
+		return 0, float64(lay.turnShare(x.from, x.to)) / 2
+	case x.kind == edgeEntrance && s.TapOf(x.entry):
+		return 1, 1
+	}
+	return 0, 0
+}
+
+// endTaps is the passes link l's demand prices at its ends, whatever the route: one at the
+// handhole where the counted lateral of an end building with one entrance (layout.endEntry)
+// taps a duct (site.Site.TapOf), at each end.
+func endTaps(s *site.Site, lay *layout, l *site.Link) float64 {
+	n := 0.0
+	for _, b := range []string{l.To, l.From} {
+		if e, ok := lay.endEntry[b]; ok && s.TapOf(e) {
+			n++
+		}
+	}
+	return n
+}
+
 // demandInfo is what the pipeline keeps about a link's demand to cost and explain its legs.
 type demandInfo struct {
 	facts    media.Link // route-independent facts; RouteM and the route facts are filled per leg
@@ -552,12 +590,7 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link, sh *shortest) (op
 	// The halves of the slack loops at the end structures, and a whole one in the handhole
 	// where a lateral taps a duct (a structure passed, passesOf; a pull point more).
 	endLoops := (items.LoopM(s, d, src.Junction) + items.LoopM(s, d, dst.Junction)) / 2
-	taps := 0.0
-	for _, e := range []geo.Entry{src, dst} {
-		if s.TapOf(e) {
-			taps++
-		}
-	}
+	taps := endTaps(s, lay, l)
 	endSlack := coils + 2*endLoops + taps*d.SlackLoopStructureM // the ends' slack whole, for the cable's price (cableFor)
 	endLoops += taps * d.SlackLoopStructureM
 	ends := riser + lateral + coils + endLoops

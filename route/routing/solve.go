@@ -379,15 +379,12 @@ func (m *Model) passGapCents(s *site.Site, lay *layout, prob *optimize.Problem, 
 	if !rt.Feasible {
 		return 0
 	}
-	var opt *optimize.Option
-	for o := range prob.Demands[d].Options {
-		if prob.Demands[d].Options[o].Name == rt.Medium {
-			opt = &prob.Demands[d].Options[o]
-		}
-	}
-	if opt == nil {
+	options := prob.Demands[d].Options
+	o := slices.IndexFunc(options, func(o optimize.Option) bool { return o.Name == rt.Medium })
+	if o < 0 {
 		return 0
 	}
+	opt := &options[o]
 	dsg := m.design
 	cables := float64(max(opt.Cables, 1))
 	loopCents := func(n float64) int64 { // n slack loops of each cable, with their bid items per structure passed
@@ -402,23 +399,11 @@ func (m *Model) passGapCents(s *site.Site, lay *layout, prob *optimize.Problem, 
 		if k >= len(ol) || len(ol[k].Hops) == 0 || !legs[k].Feasible {
 			continue // a leg the rules reject is the optimizer's as routed: the bill has none of it
 		}
-		var loops, crews float64 // what the edges priced
+		loops := endTaps(s, lay, legs[k].Link) // what the demand and the edges priced
+		crews := loops
 		for _, h := range ol[k].Hops {
-			x, extra := lay.isExtra(len(s.Net.Spans), h.Edge)
-			switch {
-			case !extra:
-				n := 0.5 * lay.joinEnds(s, h.Edge)
-				loops, crews = loops+n, crews+n
-			case x.kind == edgeTurn:
-				crews += float64(lay.turnShare(x.from, x.to)) / 2
-			case x.kind == edgeEntrance && x.entry.LateralM > 0 && s.TapOf(x.entry):
-				loops, crews = loops+1, crews+1
-			}
-		}
-		for _, b := range []string{legs[k].Link.To, legs[k].Link.From} {
-			if e, ok := lay.endEntry[b]; ok && s.TapOf(e) {
-				loops, crews = loops+1, crews+1 // the demand's (demand)
-			}
+			l, c := pricedPasses(s, lay, h.Edge)
+			loops, crews = loops+l, crews+c
 		}
 		passes := 0.0
 		for _, p := range legs[k].Cable.Passed {
