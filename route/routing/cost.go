@@ -219,19 +219,22 @@ func NewModel(eng *media.Engine, d plan.Design) *Model {
 // CheckPrices reports every price and labour rate the optimizer's problem of links on site s
 // asks of the book and the book lacks, at once (media.PriceBook.Check: an *input.Problems
 // with media.ErrMissingPrice, each naming the book, the key and where to add it); nil when the
-// book has them all. It is the one check of those prices: check runs it before routing, and
-// the problem runs it before pricing anything. The bill asks for more once the routes are
-// known (panels and enclosures of the strands routed, splice trays, tests), all at once too.
+// book has them all. Those prices are checked before routing (check runs it) and again by
+// problem, before it prices anything, with the same list (priceNeeds). The bill asks for more
+// once the routes are known (panels and enclosures of the strands routed, splice trays,
+// tests), all at once too.
 func (m *Model) CheckPrices(s *site.Site, links []site.Link) error {
-	return m.prices.Check(m.priceNeeds(s, layoutOf(s), m.runsOf(s), links))
+	lay := layoutOf(s)
+	return m.prices.Check(m.priceNeeds(s, lay, m.runsOf(s), prepaidTaps(s, lay, links)))
 }
 
 // priceNeeds lists the prices and rates the optimizer's problem of links prices with (problem),
 // whatever the routes: every pathway type's pull (and innerduct); opening each proposed span by
 // its method, with the handholes along its run; a handhole at a junction when a charge or a
-// prepaid tap may add one; and the entry and counted lateral of every entrance a route may use.
-// Prices a book may leave out whole (media.PriceBook.NotPriced) are listed; Check passes them.
-func (m *Model) priceNeeds(s *site.Site, lay *layout, runs []site.NewRun, links []site.Link) []media.PriceKey {
+// prepaid tap (prepaidTaps of the links) may add one; and the entry and counted lateral of
+// every entrance a route may use. Prices a book may leave out whole
+// (media.PriceBook.NotPriced) are listed; Check passes them.
+func (m *Model) priceNeeds(s *site.Site, lay *layout, runs []site.NewRun, prepaid map[string]bool) []media.PriceKey {
 	d := m.design
 	var needs []media.PriceKey
 	for _, t := range items.PathwayTypes {
@@ -246,7 +249,7 @@ func (m *Model) priceNeeds(s *site.Site, lay *layout, runs []site.NewRun, links 
 			needs = append(needs, items.KeysOf(items.Opening(d, sp, items.MethodOf(m.prices, d, sp)))...)
 		}
 	}
-	if hh || len(lay.charges) > 0 || len(prepaidTaps(s, lay, links)) > 0 {
+	if hh || len(lay.charges) > 0 || len(prepaid) > 0 {
 		needs = append(needs, items.KeysOf([]media.Quantity{items.JoinHandholes(1)})...)
 	}
 	for _, en := range lay.entrances {
@@ -273,7 +276,8 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 	// Handholes along runs of new construction (runsOf), by span: each is paid with its span,
 	// and a run is opened whole (site.NewRun).
 	runHH := site.HandholesBySpan(runs)
-	if err := m.prices.Check(m.priceNeeds(s, lay, runs, links)); err != nil {
+	prepaid := prepaidTaps(s, lay, links)
+	if err := m.prices.Check(m.priceNeeds(s, lay, runs, prepaid)); err != nil {
 		return nil, nil, nil, err // every price the problem needs and the book lacks, at once
 	}
 	// Duct fill: the optimizer's incremental NFPA 70 Chapter 9 Table 1 packing (nil Fits).
@@ -373,7 +377,6 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 		}
 		p.Edges = append(p.Edges, e)
 	}
-	prepaid := prepaidTaps(s, lay, links)
 	if len(lay.charges) > 0 || len(prepaid) > 0 {
 		hh := m.cents(items.JoinHandholes(1))
 		for _, c := range lay.charges {
