@@ -658,16 +658,13 @@ func (r *run) pullPlan(i int) legPulls {
 // duct it carries on from its dangling end (carried); the zero Entry for what it is not (no
 // lateral at all: both).
 func (r *run) lateralEnd(b, id string, sp *geo.Span) (own, carried geo.Entry) {
-	for _, en := range r.Site.Net.EntrancesOf(b) {
-		if en.ID != id || en.LateralM <= 0 {
-			continue
-		}
-		switch {
-		case r.Site.IsStructure(en.Junction) || r.Site.TapOf(en):
-			return en, geo.Entry{}
-		case sp != nil && sp.Type == geo.TypeDuct:
-			return geo.Entry{}, en
-		}
+	en, ok := r.Site.Net.Entry(b, id)
+	switch {
+	case !ok || en.LateralM <= 0:
+	case r.Site.IsStructure(en.Junction) || r.Site.TapOf(en):
+		return en, geo.Entry{}
+	case sp != nil && sp.Type == geo.TypeDuct:
+		return geo.Entry{}, en
 	}
 	return geo.Entry{}, geo.Entry{}
 }

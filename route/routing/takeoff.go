@@ -226,20 +226,12 @@ func passesOf(s *site.Site, d plan.Design, leg *Leg, built builtOn) ([]SplicePoi
 		p.ChannelM = at
 		out = append(out, p)
 	}
-	lateralOf := func(b, id string) float64 {
-		for _, e := range s.Net.EntrancesOf(b) {
-			if e.ID == id {
-				return e.LateralM
-			}
-		}
-		return 0
-	}
 	to := ""
 	if leg.Link != nil {
 		to = leg.Link.To
 	}
-	latTo := lateralOf(to, leg.EntranceTo)
-	at = s.RiserM(to) + d.SlackM + d.SlackLoopEntranceM + latTo
+	entry, _ := s.Net.Entry(to, leg.EntranceTo)
+	at = s.RiserM(to) + d.SlackM + d.SlackLoopEntranceM + entry.LateralM
 	juncs := s.JunctionsOf(leg.Steps)
 	atJunction := func(k int) {
 		j := juncs[k]
