@@ -203,8 +203,8 @@ type builtOn struct {
 // passesOf lists the maintenance holes and handholes a leg's cable passes, in travel order
 // from the served building, each once, with where it is along the channel: the campus's own
 // at the junctions of its route, its ends included (items.Entered), and the handholes the
-// plan builds (Added) at the junctions of its route (built.at) and along the runs of new
-// construction on its spans (built.along). It is the leg's one list of structures: the slack
+// plan builds (Added) at the junctions of its route (built.at, and where its own laterals tap
+// a duct) and along the runs of new construction on its spans (built.along). It is the leg's one list of structures: the slack
 // loops, the crew's entries and pull set-ups, the bid items per structure passed, the
 // structures table's legs and links.csv's structures_passed all read it.
 //
@@ -226,11 +226,17 @@ func passesOf(s *site.Site, d plan.Design, leg *Leg, built builtOn) ([]SplicePoi
 		p.ChannelM = at
 		out = append(out, p)
 	}
-	to := ""
+	to, from := "", ""
 	if leg.Link != nil {
-		to = leg.Link.To
+		to, from = leg.Link.To, leg.Link.From
 	}
 	entry, _ := s.Net.Entry(to, leg.EntranceTo)
+	far, _ := s.Net.Entry(from, leg.EntranceFrom)
+	// The handholes where the leg's own laterals tap a duct are built whenever the leg is
+	// (handholesOf: the taps of the entrances used), so it is measured with them whatever
+	// built.at says: a leg whose loss budget or reach fails with its tap's slack loop is
+	// infeasible, not feasible in a round that left its tap out (SolveFrom's rounds).
+	ownTap := func(j string) bool { return j == tapOf(s, entry) || j == tapOf(s, far) }
 	at = s.RiserM(to) + d.SlackM + d.SlackLoopEntranceM + entry.LateralM
 	juncs := s.JunctionsOf(leg.Steps)
 	atJunction := func(k int) {
@@ -238,7 +244,7 @@ func passesOf(s *site.Site, d plan.Design, leg *Leg, built builtOn) ([]SplicePoi
 		switch {
 		case items.Entered(s, j):
 			pass(SplicePoint{ID: j})
-		case built.at[j] && throughHandhole(s, leg, juncs, k):
+		case (built.at[j] || ownTap(j)) && throughHandhole(s, leg, juncs, k):
 			pass(SplicePoint{ID: j, Added: true})
 		}
 	}
