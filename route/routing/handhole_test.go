@@ -27,41 +27,17 @@ import (
 // it (handholesOf's unpaid).
 func TestPrepaidTapHandhole(t *testing.T) {
 	t.Parallel()
-	line := func(id string, pts ...float64) string {
-		var c []string
-		for i := 0; i+1 < len(pts); i += 2 {
-			c = append(c, fmt.Sprintf("[%.7f,%.7f]", testsite.X(pts[i]), testsite.Y(pts[i+1])))
-		}
-		return fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":%q,"type":"duct"},"geometry":{"type":"LineString","coordinates":[%s]}}`, id, strings.Join(c, ","))
-	}
 	hh := fmt.Sprintf(`{"type":"Feature","properties":{"kind":"structure","id":"HH","type":"handhole"},"geometry":{"type":"Point","coordinates":[%.7f,%.7f]}}`,
 		testsite.X(300), testsite.Y(0))
-	campus := `{"type":"FeatureCollection","features":[` + strings.Join([]string{testsite.Box("A", "mc", 0, 0), testsite.Box("S", "", 150, -30),
-		testsite.Box("B", "", 150, 130), line("D", 0, 0, 150, 0, 300, 0), line("L", 150, 0, 150, 120), hh}, ",") + `]}`
-	c, err := geo.Parse("t.geojson", []byte(campus))
-	if err != nil {
-		t.Fatal(err)
-	}
-	net, err := geo.Build(c, geo.Options{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	s := site.NewSite(c, net)
+	s := testsite.Campus(t, "t.geojson", testsite.Features(testsite.Box("A", "mc", 0, 0), testsite.Box("S", "", 150, -30), testsite.Box("B", "", 150, 130),
+		testsite.Pathway("D", geo.TypeDuct, 0, 0, 150, 0, 300, 0), testsite.Pathway("L", geo.TypeDuct, 150, 0, 150, 120), hh))
 	p := plan.Default
 	p.Hub = "A"
 	eng, err := plan.Engine(&p)
 	if err != nil {
 		t.Fatal(err)
 	}
-	links, _, errs := s.Links(&p, "A")
-	if len(errs) > 0 {
-		t.Fatal(errs)
-	}
-	m := NewModel(eng, p.Design)
-	r, err := Solve(context.Background(), s, m, links)
-	if err != nil {
-		t.Fatal(err)
-	}
+	r, m, links := solveOn(t, s, &p, eng)
 	if len(r.Handholes) != 1 || !r.Handholes[0].Taps || !r.Handholes[0].Turns || r.Handholes[0].Purpose() != PurposeTap {
 		t.Fatalf("handholes %+v, want one where S taps and A-B turns", r.Handholes)
 	}
@@ -121,24 +97,8 @@ func TestPrepaidTapHandhole(t *testing.T) {
 // structures table did not list.
 func TestOwnTapMeasured(t *testing.T) {
 	t.Parallel()
-	line := func(id string, pts ...float64) string {
-		var c []string
-		for i := 0; i+1 < len(pts); i += 2 {
-			c = append(c, fmt.Sprintf("[%.7f,%.7f]", testsite.X(pts[i]), testsite.Y(pts[i+1])))
-		}
-		return fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":%q,"type":"duct"},"geometry":{"type":"LineString","coordinates":[%s]}}`, id, strings.Join(c, ","))
-	}
-	campus := `{"type":"FeatureCollection","features":[` + strings.Join([]string{testsite.Box("A", "mc", 0, 0), testsite.Box("S", "", 224, -30),
-		testsite.Box("B", "", 60, 130), testsite.Box("C", "", 289, 0), line("D", 0, 0, 60, 0, 284, 0), line("L", 60, 0, 60, 120)}, ",") + `]}`
-	c, err := geo.Parse("t.geojson", []byte(campus))
-	if err != nil {
-		t.Fatal(err)
-	}
-	net, err := geo.Build(c, geo.Options{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	s := site.NewSite(c, net)
+	s := testsite.Campus(t, "t.geojson", testsite.Features(testsite.Box("A", "mc", 0, 0), testsite.Box("S", "", 224, -30), testsite.Box("B", "", 60, 130), testsite.Box("C", "", 289, 0),
+		testsite.Pathway("D", geo.TypeDuct, 0, 0, 60, 0, 284, 0), testsite.Pathway("L", geo.TypeDuct, 60, 0, 60, 120)))
 	p := plan.Default
 	p.Hub = "A"
 	p.Links = []plan.LinkSpec{{To: "C", Rate: "1G"}}
@@ -148,15 +108,7 @@ func TestOwnTapMeasured(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	links, _, errs := s.Links(&p, "A")
-	if len(errs) > 0 {
-		t.Fatal(errs)
-	}
-	m := NewModel(eng, p.Design)
-	r, err := Solve(context.Background(), s, m, links)
-	if err != nil {
-		t.Fatal(err)
-	}
+	r, m, links := solveOn(t, s, &p, eng)
 	legTo := func(b string) *Leg {
 		for i := range r.Legs {
 			if r.Legs[i].Link.To == b {
@@ -254,4 +206,19 @@ func TestSettleHandholes(t *testing.T) {
 	if _, _, err := settleHandholes(set("J1"), func(map[string]bool) (map[string]bool, error) { return nil, boom }); !errors.Is(err, boom) {
 		t.Errorf("error %v, want %v", err, boom)
 	}
+}
+
+// solveOn routes the links plan p makes on s from its hub, with engine eng.
+func solveOn(t *testing.T, s *site.Site, p *plan.Plan, eng *media.Engine) (*Routed, *Model, []site.Link) {
+	t.Helper()
+	links, _, errs := s.Links(p, p.Hub)
+	if len(errs) > 0 {
+		t.Fatal(errs)
+	}
+	m := NewModel(eng, p.Design)
+	r, err := Solve(context.Background(), s, m, links)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return r, m, links
 }
