@@ -510,11 +510,10 @@ func prepaidTaps(s *site.Site, lay *layout, links []site.Link) map[string]bool {
 // pass at each end where it joins the network (layout.joinEnds: a route from one joining span
 // into another passes that handhole once, half on each; one from the network into it pays
 // the other half in the plan's evaluation, or, where the junction is split for turns, its
-// crew share on the turn edge); a turn edge its crew share
-// (layout.turnShare) and no loop (problem says why); an entrance edge a whole pass at its
-// lateral's tap (site.Site.TapOf). A route's end taps are its demand's (endTaps). problem
-// prices the edges with it and passGapCents the passes it leaves out, so the two cannot
-// disagree.
+// crew share on the turn edge); a turn edge its crew share (layout.turnShare) and no loop
+// (problem says why); an entrance edge a whole pass at its lateral's tap (site.Site.TapOf).
+// A route's end taps are its demand's (endTaps). problem prices the edges with it and
+// passGapCents the passes it leaves out, so the two cannot disagree.
 func pricedPasses(s *site.Site, lay *layout, e int) (loops, crews float64) {
 	x, extra := lay.isExtra(len(s.Net.Spans), e)
 	switch {
