@@ -204,9 +204,10 @@ type builtOn struct {
 // from the served building, each once, with where it is along the channel: the campus's own
 // at the junctions of its route, its ends included (items.Entered), and the handholes the
 // plan builds (Added) at the junctions of its route (built.at, and where its own laterals tap
-// a duct) and along the runs of new construction on its spans (built.along). It is the leg's one list of structures: the slack
-// loops, the crew's entries and pull set-ups, the bid items per structure passed, the
-// structures table's legs and links.csv's structures_passed all read it.
+// a duct) and along the runs of new construction on its spans (built.along). It is the leg's
+// one list of structures: the slack loops, the crew's entries and pull set-ups, the bid items
+// per structure passed, the structures table's legs and links.csv's structures_passed all
+// read it.
 //
 // A handhole built at a junction is built into the duct runs that meet there (the ducts are
 // broken out into it, as at a maintenance hole on a run), so every leg whose route passes the
@@ -236,7 +237,8 @@ func passesOf(s *site.Site, d plan.Design, leg *Leg, built builtOn) ([]SplicePoi
 	// (handholesOf: the taps of the entrances used), so it is measured with them whatever
 	// built.at says: a leg whose loss budget or reach fails with its tap's slack loop is
 	// infeasible, not feasible in a round that left its tap out (SolveFrom's rounds).
-	ownTap := func(j string) bool { return j == tapOf(s, entry) || j == tapOf(s, far) }
+	tapTo, tapFrom := tapOf(s, entry), tapOf(s, far)
+	ownTap := func(j string) bool { return j != "" && (j == tapTo || j == tapFrom) }
 	at = s.RiserM(to) + d.SlackM + d.SlackLoopEntranceM + entry.LateralM
 	juncs := s.JunctionsOf(leg.Steps)
 	atJunction := func(k int) {
