@@ -136,3 +136,14 @@ func (n *Network) EntrancesOf(building string) []Entry {
 	}
 	return n.Entrances[lo:hi:hi]
 }
+
+// Entry returns the entrance with the given ID of the building with the given ID (an entry's
+// ID names one entrance of its building), and false when the building has none by that ID.
+func (n *Network) Entry(building, id string) (Entry, bool) {
+	for _, e := range n.EntrancesOf(building) {
+		if e.ID == id {
+			return e, true
+		}
+	}
+	return Entry{}, false
+}

@@ -70,6 +70,17 @@ func TestEntrancesTwoLaterals(t *testing.T) {
 	if hs := n.EntrancesOf("H"); len(hs) != 1 || hs[0].ID != "H:1" {
 		t.Errorf("hub entrances %v", hs)
 	}
+	// Entry finds an entrance by its building and ID, and nothing under another building.
+	if e, ok := n.Entry("B", "B:2"); !ok || e.ID != "B:2" || e.Building != "B" {
+		t.Errorf("Entry(B, B:2) = %+v, %v; want B's entrance B:2", e, ok)
+	} else if j, _ := n.Junction(e.Junction); DistanceM(j.Point, ends["B:2"]) != 0 {
+		t.Errorf("Entry(B, B:2) is at %v, want %v", j.Point, ends["B:2"])
+	}
+	for _, q := range [][2]string{{"H", "B:1"}, {"B", "B:3"}, {"X", "B:1"}} {
+		if e, ok := n.Entry(q[0], q[1]); ok {
+			t.Errorf("Entry(%s, %s) = %+v, want none", q[0], q[1], e)
+		}
+	}
 }
 
 // TestEntrancesDeclaredAndFootprint: a building with a declared entrance on a pathway, one off

@@ -791,37 +791,54 @@ func (e *Engine) UntriedTransition(medium string, l Link) string {
 // the shortest channel (shortLengths): the reason of the first rule failed by the application
 // that fails the fewest, as a Rejection's; "" when it passes.
 func (e *Engine) WhyNotLaid(medium string, lay Laying, rateGbps float64, l Link) string {
+	why, least, passes := "", -1, false
+	e.eachLaying(medium, rateGbps, l, func(c *candidate, k, inside *Construction) bool {
+		switch {
+		case layingOf(k, inside) != lay:
+		case c.failed < 0:
+			passes = true
+			return false
+		case least < 0 || c.nFailed < least:
+			rule := e.rules.Rules[c.failed]
+			why, least = fmt.Sprintf("%s on %s rejected by %s: %s", c.m.ID, lay, rule.ID, rule.reason.render(c.f[:])), c.nFailed
+		}
+		return true
+	})
+	switch {
+	case passes:
+		return ""
+	case why == "":
+		return fmt.Sprintf("%s on %s: no such laying at %s on this link", medium, lay, FormatRate(rateGbps))
+	}
+	return why
+}
+
+// eachLaying evaluates every laying of medium (each construction as it is, then with its
+// entrance transition when it has one: variants) with every application at rateGbps that
+// the medium carries, on a link with l's facts at the shortest channel (shortLengths), and
+// calls yield with each candidate in catalog order (applications, constructions, variants)
+// until yield returns false. c is scratch, valid during the call only. It is what LayingFor
+// and WhyNotLaid judge, so the two weigh the same candidates. It panics on a medium not in
+// the catalog.
+func (e *Engine) eachLaying(medium string, rateGbps float64, l Link, yield func(c *candidate, k, inside *Construction) bool) {
 	m := e.mustMedium(medium)
 	mi := slices.Index(e.cat.Media, m)
 	l.RateGbps = rateGbps
 	at := shortLengths(l)
 	var c candidate
-	why, least := "", -1
 	for ai, a := range e.cat.Applications {
 		if len(e.reachesOn(a, m)) == 0 || a.RateGbps != rateGbps {
 			continue
 		}
 		for ki, k := range m.Constructions {
-			if k.ID != lay.Construction {
-				continue
-			}
 			for _, inside := range e.variants(l, a, m, k) {
-				if layingOf(k, inside) != lay {
-					continue
-				}
-				if e.evaluate(&c, l, at, mi, ai, ki, inside); c.failed < 0 {
-					return ""
-				} else if least < 0 || c.nFailed < least {
-					rule := e.rules.Rules[c.failed]
-					why, least = fmt.Sprintf("%s on %s rejected by %s: %s", m.ID, lay, rule.ID, rule.reason.render(c.f[:])), c.nFailed
+				e.evaluate(&c, l, at, mi, ai, ki, inside)
+				if !yield(&c, k, inside) {
+					return
 				}
 			}
 		}
 	}
-	if why == "" {
-		why = fmt.Sprintf("%s on %s: no such laying at %s on this link", m.ID, lay, FormatRate(rateGbps))
-	}
-	return why
 }
 
 // candidates holds the candidate slices of finished choices, for the next (choose).
@@ -1091,30 +1108,14 @@ func shortLengths(l Link) lengths { return trialLengths(l, l.RiserM+l.SlackM+1) 
 // be priced as whatever its length, for routing. ok is false when none passes. It panics on a
 // medium not in the catalog.
 func (e *Engine) LayingFor(medium string, rateGbps float64, l Link) (lay Laying, price LayingPrice, ok bool) {
-	m := e.mustMedium(medium)
-	mi := slices.Index(e.cat.Media, m)
-	l.RateGbps = rateGbps
-	at := shortLengths(l)
-	var c candidate
-	var best struct {
-		lay   Laying
-		price LayingPrice
-		cost  int64
-		found bool
-	}
-	for ai, a := range e.cat.Applications {
-		if len(e.reachesOn(a, m)) == 0 || a.RateGbps != rateGbps {
-			continue
+	var cost int64
+	e.eachLaying(medium, rateGbps, l, func(c *candidate, k, inside *Construction) bool {
+		if c.failed < 0 && (!ok || c.costCents < cost) {
+			lay, price, cost, ok = layingOf(k, inside), e.layingPrice(c.m, k, inside, c.strands), c.costCents, true
 		}
-		for ki, k := range m.Constructions {
-			for _, inside := range e.variants(l, a, m, k) {
-				if e.evaluate(&c, l, at, mi, ai, ki, inside); c.failed < 0 && (!best.found || c.costCents < best.cost) {
-					best.lay, best.price, best.cost, best.found = layingOf(k, inside), e.layingPrice(m, k, inside, c.strands), c.costCents, true
-				}
-			}
-		}
-	}
-	return best.lay, best.price, best.found
+		return true
+	})
+	return lay, price, ok
 }
 
 // Lays reports whether laying lay of medium carries a link with l's facts at rateGbps by every

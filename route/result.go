@@ -180,6 +180,7 @@ func SolveFrom(ctx context.Context, s *site.Site, p *plan.Plan, eng *media.Engin
 	if pr.warning != "" {
 		r.Warnings = append(r.Warnings, pr.warning)
 	}
+	r.Warnings = append(r.Warnings, rt.Warnings...)
 	r.cutOff(s.UnreachableServed(hub, links))
 	e, err := estimate.Build(ctx, estimate.Input{Site: s, Plan: p, Engine: eng, Legs: r.Legs, Fill: r.Fill, Opened: r.Opened, Handholes: r.Handholes,
 		Runs: rt.Runs, Entrances: rt.Entrances})

@@ -292,6 +292,9 @@ type run struct {
 	// routing.SegmentFill.AddedDucts), read once in ductFill and billed from here in
 	// construction.
 	newDucts map[string]int
+	// spliceJoins is the bill's sources of the splice points to build, one per join that
+	// needs one (splicePoints).
+	spliceJoins []string
 }
 
 // Keys of run.newFrom beside the trench surfaces.
@@ -349,25 +352,7 @@ func Build(ctx context.Context, in Input) (*Estimate, error) {
 		}
 	}
 	e.AddedPullPoints = len(added)
-	// A mid-span splice no structure could take (routing.CableTakeoff.Splices) needs a splice
-	// point built: said, not billed.
-	for i := range r.Legs {
-		l := &r.Legs[i]
-		if !l.Feasible {
-			continue
-		}
-		for k, sp := range l.Cable.Splices {
-			if !sp.NoStructure {
-				continue
-			}
-			why := "has no maintenance hole or handhole within its reel's reach (%s);"
-			if sp.AtReelEnd {
-				why = "is placed at its reel's end (%s), not in the last structure before it: there the leg would take a join more and its loss budget would not close;"
-			}
-			e.Warnings = append(e.Warnings, fmt.Sprintf("%s %s: mid-span splice %d of %d "+why+" build a splice point there (a handhole, or a closure on an aerial span's strand): the bill's \""+SplicePointItem+"\" line, at splice_point_each",
-				l.Link.ID, l.Name, k+1, len(l.Cable.Splices), sp.Text(MetresText)))
-		}
-	}
+	r.splicePoints()
 	for _, step := range []func(){r.ductFill, r.connectivity, r.construction, r.quantities} {
 		if err := ctx.Err(); err != nil {
 			return nil, err
@@ -673,16 +658,13 @@ func (r *run) pullPlan(i int) legPulls {
 // duct it carries on from its dangling end (carried); the zero Entry for what it is not (no
 // lateral at all: both).
 func (r *run) lateralEnd(b, id string, sp *geo.Span) (own, carried geo.Entry) {
-	for _, en := range r.Site.Net.EntrancesOf(b) {
-		if en.ID != id || en.LateralM <= 0 {
-			continue
-		}
-		switch {
-		case r.Site.IsStructure(en.Junction) || r.Site.TapOf(en):
-			return en, geo.Entry{}
-		case sp != nil && sp.Type == geo.TypeDuct:
-			return geo.Entry{}, en
-		}
+	en, ok := r.Site.Net.Entry(b, id)
+	switch {
+	case !ok || en.LateralM <= 0:
+	case r.Site.IsStructure(en.Junction) || r.Site.TapOf(en):
+		return en, geo.Entry{}
+	case sp != nil && sp.Type == geo.TypeDuct:
+		return geo.Entry{}, en
 	}
 	return geo.Entry{}, geo.Entry{}
 }
@@ -1215,6 +1197,46 @@ type SplicePointToBuild struct {
 	Legs []int
 }
 
+// splicePoints lists the splice points to build (Estimate.SplicePoints) and warns of each
+// join that needs one, in leg then splice order: a join no structure within its reel's reach
+// takes, or one placed at its reel's end to spare the leg a join (routing.SplicePoint.NoStructure,
+// AtReelEnd), needs a splice point built there, one a place, serving every cable of every leg
+// that joins there (legs sharing a route and reel lengths join at the same places). The bill's
+// line (quantities) comes from there, with one source per join (run.spliceJoins).
+func (r *run) splicePoints() {
+	e := r.Estimate
+	places := map[string]int{}
+	e.SplicePoints, r.spliceJoins = nil, nil
+	for i := range r.Legs {
+		l := &r.Legs[i]
+		if !l.Feasible {
+			continue
+		}
+		for n, sp := range l.Cable.Splices {
+			if !sp.NoStructure {
+				continue
+			}
+			place := sp.Text(MetresText)
+			why := "has no maintenance hole or handhole within its reel's reach (" + place + ")"
+			if sp.AtReelEnd {
+				why = "is placed at its reel's end (" + place + "), not in the last structure before it: there the leg would take a join more and its loss budget would not close"
+			}
+			e.Warnings = append(e.Warnings, fmt.Sprintf("%s %s: mid-span splice %d of %d %s; build a splice point there (a handhole, or a closure on an aerial span's strand): the bill's \""+SplicePointItem+"\" line, at splice_point_each",
+				l.Link.ID, l.Name, n+1, len(l.Cable.Splices), why))
+			k, ok := places[place]
+			if !ok {
+				k = len(e.SplicePoints)
+				places[place] = k
+				e.SplicePoints = append(e.SplicePoints, SplicePointToBuild{At: sp})
+			}
+			if legs := e.SplicePoints[k].Legs; len(legs) == 0 || legs[len(legs)-1] != i {
+				e.SplicePoints[k].Legs = append(legs, i)
+			}
+			r.spliceJoins = append(r.spliceJoins, fromLeg(l))
+		}
+	}
+}
+
 // SplicePointItem is the bill item of a splice point built where a mid-span splice has no
 // maintenance hole or handhole within its reel's reach (routing.SplicePoint.NoStructure).
 const SplicePointItem = "splice point to build, mid-span splice with no structure within reach"
@@ -1420,37 +1442,11 @@ func (r *run) quantities() {
 	}
 	e.Quantities = append(e.Quantities, media.Quantity{Category: media.CategoryConstruction, Item: "handhole for an added pull point",
 		Unit: media.UnitEach, Amount: float64(e.AddedPullPoints), Price: media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole}, From: pulled})
-	// A join no structure within its reel's reach takes needs a splice point built there
-	// (routing.SplicePoint.NoStructure), one a place, serving every cable of every leg that
-	// joins there (legs sharing a route and reel lengths join at the same places): priced at
-	// splice_point_each, or listed not priced (media.PriceBook.NotPriced), so
-	// that the total and summary.json's not_priced say they are left out. Like the added pull
-	// points, not in any leg's cost.
-	places, joined := map[string]int{}, []string(nil)
-	e.SplicePoints = nil
-	for i := range r.Legs {
-		l := &r.Legs[i]
-		if !l.Feasible {
-			continue
-		}
-		for _, sp := range l.Cable.Splices {
-			if !sp.NoStructure {
-				continue
-			}
-			k, ok := places[sp.Text(MetresText)]
-			if !ok {
-				k = len(e.SplicePoints)
-				places[sp.Text(MetresText)] = k
-				e.SplicePoints = append(e.SplicePoints, SplicePointToBuild{At: sp})
-			}
-			if legs := e.SplicePoints[k].Legs; len(legs) == 0 || legs[len(legs)-1] != i {
-				e.SplicePoints[k].Legs = append(legs, i)
-			}
-			joined = append(joined, fromLeg(l))
-		}
-	}
+	// The splice points to build (splicePoints): priced at splice_point_each, or listed not
+	// priced (media.PriceBook.NotPriced), so that the total and summary.json's not_priced say
+	// they are left out. Like the added pull points, not in any leg's cost.
 	e.Quantities = append(e.Quantities, media.Quantity{Category: media.CategoryConstruction, Item: SplicePointItem,
-		Unit: media.UnitEach, Amount: float64(len(e.SplicePoints)), Price: media.PriceKey{Item: media.PriceSplicePoint}, From: joined})
+		Unit: media.UnitEach, Amount: float64(len(e.SplicePoints)), Price: media.PriceKey{Item: media.PriceSplicePoint}, From: r.spliceJoins})
 	if len(p.BidItems) > 0 {
 		e.Bases = r.bidBases()
 		for _, q := range p.BidQuantities(e.Bases) {

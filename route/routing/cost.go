@@ -53,12 +53,10 @@ type Model struct {
 	design      plan.Design
 	allowedMemo map[allowedKey]bool
 	cableMemo   map[cableKey]cabled
-	// laysMemo, layingMemo and layingPrices remember lays, layingFor and the prices of the
-	// layings it found.
-	laysMemo     map[layingKey]bool
-	layingMemo   map[layingKey]media.Laying
-	layingPrices map[layingKey]media.LayingPrice
-	bidMemo      map[media.BidBases][]media.Quantity // items.BidPer by bases, for the model's book
+	// laysMemo and layingMemo remember lays and layingFor.
+	laysMemo   map[layingKey]bool
+	layingMemo map[layingKey]laid
+	bidMemo    map[media.BidBases][]media.Quantity // items.BidPer by bases, for the model's book
 }
 
 // Edge flags. flagDuct marks a duct edge, so that a cable too large for the design's
@@ -191,7 +189,7 @@ func (m *Model) whyNot(name string, info demandInfo, c spanClass) string {
 	l.RouteM = 1
 	var why []string
 	if lay := info.layings[name]; lay.Construction != "" && m.allowedFor(medium, info, c) {
-		if other, ok := m.layingFor(medium, info, c); ok && other != lay {
+		if other, ok := m.layingFor(medium, info, c); ok && other.laying != lay {
 			return m.eng.WhyNotLaid(medium, lay, info.rate, classFacts(info, c))
 		}
 		l.Outdoor = true // as the option's laying was priced: a route that leaves the buildings
@@ -214,26 +212,29 @@ func (m *Model) whyNot(name string, info demandInfo, c spanClass) string {
 // the optimizer's problem asks of the book are checked by CheckPrices, all at once.
 func NewModel(eng *media.Engine, d plan.Design) *Model {
 	return &Model{eng: eng, prices: eng.PriceBook(), design: d, allowedMemo: map[allowedKey]bool{}, cableMemo: map[cableKey]cabled{},
-		laysMemo: map[layingKey]bool{}, layingMemo: map[layingKey]media.Laying{}, layingPrices: map[layingKey]media.LayingPrice{},
+		laysMemo: map[layingKey]bool{}, layingMemo: map[layingKey]laid{},
 		bidMemo: map[media.BidBases][]media.Quantity{}}
 }
 
 // CheckPrices reports every price and labour rate the optimizer's problem of links on site s
 // asks of the book and the book lacks, at once (media.PriceBook.Check: an *input.Problems
 // with media.ErrMissingPrice, each naming the book, the key and where to add it); nil when the
-// book has them all. It is the one check of those prices: check runs it before routing, and
-// the problem runs it before pricing anything. The bill asks for more once the routes are
-// known (panels and enclosures of the strands routed, splice trays, tests), all at once too.
+// book has them all. Those prices are checked before routing (check runs it) and again by
+// problem, before it prices anything, with the same list (priceNeeds). The bill asks for more
+// once the routes are known (panels and enclosures of the strands routed, splice trays,
+// tests), all at once too.
 func (m *Model) CheckPrices(s *site.Site, links []site.Link) error {
-	return m.prices.Check(m.priceNeeds(s, layoutOf(s), m.runsOf(s), links))
+	lay := layoutOf(s)
+	return m.prices.Check(m.priceNeeds(s, lay, m.runsOf(s), prepaidTaps(s, lay, links)))
 }
 
 // priceNeeds lists the prices and rates the optimizer's problem of links prices with (problem),
 // whatever the routes: every pathway type's pull (and innerduct); opening each proposed span by
 // its method, with the handholes along its run; a handhole at a junction when a charge or a
-// prepaid tap may add one; and the entry and counted lateral of every entrance a route may use.
-// Prices a book may leave out whole (media.PriceBook.NotPriced) are listed; Check passes them.
-func (m *Model) priceNeeds(s *site.Site, lay *layout, runs []site.NewRun, links []site.Link) []media.PriceKey {
+// prepaid tap (prepaidTaps of the links) may add one; and the entry and counted lateral of
+// every entrance a route may use. Prices a book may leave out whole
+// (media.PriceBook.NotPriced) are listed; Check passes them.
+func (m *Model) priceNeeds(s *site.Site, lay *layout, runs []site.NewRun, prepaid map[string]bool) []media.PriceKey {
 	d := m.design
 	var needs []media.PriceKey
 	for _, t := range items.PathwayTypes {
@@ -248,7 +249,7 @@ func (m *Model) priceNeeds(s *site.Site, lay *layout, runs []site.NewRun, links 
 			needs = append(needs, items.KeysOf(items.Opening(d, sp, items.MethodOf(m.prices, d, sp)))...)
 		}
 	}
-	if hh || len(lay.charges) > 0 || len(prepaidTaps(s, lay, links)) > 0 {
+	if hh || len(lay.charges) > 0 || len(prepaid) > 0 {
 		needs = append(needs, items.KeysOf([]media.Quantity{items.JoinHandholes(1)})...)
 	}
 	for _, en := range lay.entrances {
@@ -275,7 +276,8 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 	// Handholes along runs of new construction (runsOf), by span: each is paid with its span,
 	// and a run is opened whole (site.NewRun).
 	runHH := site.HandholesBySpan(runs)
-	if err := m.prices.Check(m.priceNeeds(s, lay, runs, links)); err != nil {
+	prepaid := prepaidTaps(s, lay, links)
+	if err := m.prices.Check(m.priceNeeds(s, lay, runs, prepaid)); err != nil {
 		return nil, nil, nil, err // every price the problem needs and the book lacks, at once
 	}
 	// Duct fill: the optimizer's incremental NFPA 70 Chapter 9 Table 1 packing (nil Fits).
@@ -287,18 +289,17 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 		// structure crosses two of its spans; the halves at a route's two ends are its
 		// demand's (demand).
 		pull, entered := crewHalves(s, sp.From, sp.To)
-		// Handholes along its run, and half of each where it joins the network (a route from
-		// one joining span into another passes that handhole once, half on each; one from the
-		// network into it pays the other half in the plan's evaluation, passGapCents, or, where
-		// the junction is split for turns, its crew share on the turn edge, layout.turnShare).
-		// Each is a structure passed as the campus's are (passesOf): a slack loop, a crew
-		// entry, the bid items per structure passed.
-		hh := float64(len(runHH[sp.ID])) + 0.5*lay.joinEnds(s, i)
-		loops := (items.LoopM(s, d, sp.From)+items.LoopM(s, d, sp.To))/2 + hh*d.SlackLoopStructureM
+		// Handholes along its run, and its share of those where it joins the network
+		// (pricedPasses). Each is a structure passed as the campus's are (passesOf): a slack
+		// loop, a crew entry, the bid items per structure passed.
+		joinLoops, joinCrews := pricedPasses(s, lay, i)
+		along := float64(len(runHH[sp.ID]))
+		loops := (items.LoopM(s, d, sp.From)+items.LoopM(s, d, sp.To))/2 + (along+joinLoops)*d.SlackLoopStructureM
+		crews := along + joinCrews
 		// The loops count in the channel too (the loss budget's), so in the reach (ReachM).
 		e := optimize.Edge{ID: sp.ID, From: int(u), To: int(v), LengthM: sp.LengthM, CableM: items.Wasted(d, sp.LengthM+loops), ReachM: sp.LengthM + loops,
 			PerCableCents: m.cents(items.AlongSpan(d, sp.Type, sp.LengthM)...) + m.cents(items.StructureLoops(loops)...) +
-				m.cents(items.AtJunctions(m.prices, pull+hh, entered+hh)...) + m.bidPer(media.BidBases{Structures: 1}, entered+hh),
+				m.cents(items.AtJunctions(m.prices, pull+crews, entered+crews)...) + m.bidPer(media.BidBases{Structures: 1}, entered+crews),
 			Group: lay.groupOf[sp.Group], Flags: lay.classBit[classOf(sp)]}
 		if sp.Type == geo.TypeDuct {
 			e.Flags |= flagDuct
@@ -332,8 +333,9 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 		}
 		p.Edges[i] = e
 	}
-	for _, x := range lay.extra {
+	for k, x := range lay.extra {
 		e := optimize.Edge{From: x.from, To: x.to}
+		loops, crews := pricedPasses(s, lay, len(net.Spans)+k)
 		switch x.kind {
 		case edgeEntrance:
 			e.ID, e.Group = "entrance "+x.entry.ID+" of "+x.building, x.group
@@ -342,11 +344,12 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 				e.LengthM, e.CableM, e.ReachM = lat, items.Wasted(d, lat), lat
 				e.PerCableCents = m.cents(items.LegEnds(0, 0, lat)...)
 				e.Flags = lay.classBit[lateralClass]
-				if s.TapOf(x.entry) { // the tap's handhole, a structure passed (passesOf)
-					e.CableM += items.Wasted(d, d.SlackLoopStructureM)
-					e.ReachM += d.SlackLoopStructureM
-					e.PerCableCents += m.cents(items.TapCrew(m.prices)...) + m.cents(items.StructureLoops(d.SlackLoopStructureM)...) +
-						m.bidPer(media.BidBases{Structures: 1}, 1)
+				if loops > 0 { // the tap's handhole, a structure passed (passesOf)
+					loopM := loops * d.SlackLoopStructureM
+					e.CableM += items.Wasted(d, loopM)
+					e.ReachM += loopM
+					e.PerCableCents += m.cents(items.AtJunctions(m.prices, crews, crews)...) + m.cents(items.StructureLoops(loopM)...) +
+						m.bidPer(media.BidBases{Structures: 1}, loops)
 				}
 			}
 			if loop := items.LoopM(s, d, x.junction) / 2; loop > 0 {
@@ -367,15 +370,13 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 			// priced in halves rounds to a cent apart, which would let cents of rounding pick
 			// between equal routes (TestStartRoutesRebuildsSolution). The plan's evaluation
 			// prices them on the routes returned (passGapCents; README, "One cost model").
-			share := float64(lay.turnShare(x.from, x.to)) / 2
-			e.ID, e.PerCableCents = "turn at "+x.junction, m.cents(items.AtJunctions(m.prices, share, share)...)
+			e.ID, e.PerCableCents = "turn at "+x.junction, m.cents(items.AtJunctions(m.prices, crews, crews)...)
 			// Its loop is in the channel all the same (its share of it: reach is not priced, so
 			// halves that round apart choose nothing).
-			e.ReachM = share * d.SlackLoopStructureM
+			e.ReachM = crews * d.SlackLoopStructureM
 		}
 		p.Edges = append(p.Edges, e)
 	}
-	prepaid := prepaidTaps(s, lay, links)
 	if len(lay.charges) > 0 || len(prepaid) > 0 {
 		hh := m.cents(items.JoinHandholes(1))
 		for _, c := range lay.charges {
@@ -503,6 +504,43 @@ func prepaidTaps(s *site.Site, lay *layout, links []site.Link) map[string]bool {
 	return out
 }
 
+// pricedPasses is what edge e of the optimizer's problem prices of the passes through
+// handholes at junctions (passesOf), in passes of one cable: the slack loops (with their bid
+// items per structure passed) and the crew's pull set-ups and entries. A span prices half a
+// pass at each end where it joins the network (layout.joinEnds: a route from one joining span
+// into another passes that handhole once, half on each; one from the network into it pays
+// the other half in the plan's evaluation, or, where the junction is split for turns, its
+// crew share on the turn edge); a turn edge its crew share (layout.turnShare) and no loop
+// (problem says why); an entrance edge a whole pass at its lateral's tap (site.Site.TapOf).
+// A route's end taps are its demand's (endTaps). problem prices the edges with it and
+// passGapCents the passes it leaves out, so the two cannot disagree.
+func pricedPasses(s *site.Site, lay *layout, e int) (loops, crews float64) {
+	x, extra := lay.isExtra(len(s.Net.Spans), e)
+	switch {
+	case !extra:
+		n := 0.5 * lay.joinEnds(s, e)
+		return n, n
+	case x.kind == edgeTurn:
+		return 0, float64(lay.turnShare(x.from, x.to)) / 2
+	case x.kind == edgeEntrance && s.TapOf(x.entry):
+		return 1, 1
+	}
+	return 0, 0
+}
+
+// endTaps is the passes link l's demand prices at its ends, whatever the route: one at the
+// handhole where the counted lateral of an end building with one entrance (layout.endEntry)
+// taps a duct (site.Site.TapOf), at each end.
+func endTaps(s *site.Site, lay *layout, l *site.Link) float64 {
+	n := 0.0
+	for _, b := range []string{l.To, l.From} {
+		if e, ok := lay.endEntry[b]; ok && s.TapOf(e) {
+			n++
+		}
+	}
+	return n
+}
+
 // demandInfo is what the pipeline keeps about a link's demand to cost and explain its legs.
 type demandInfo struct {
 	facts    media.Link // route-independent facts; RouteM and the route facts are filled per leg
@@ -554,12 +592,7 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link, sh *shortest) (op
 	// The halves of the slack loops at the end structures, and a whole one in the handhole
 	// where a lateral taps a duct (a structure passed, passesOf; a pull point more).
 	endLoops := (items.LoopM(s, d, src.Junction) + items.LoopM(s, d, dst.Junction)) / 2
-	taps := 0.0
-	for _, e := range []geo.Entry{src, dst} {
-		if s.TapOf(e) {
-			taps++
-		}
-	}
+	taps := endTaps(s, lay, l)
 	endSlack := coils + 2*endLoops + taps*d.SlackLoopStructureM // the ends' slack whole, for the cable's price (cableFor)
 	endLoops += taps * d.SlackLoopStructureM
 	ends := riser + lateral + coils + endLoops
@@ -614,7 +647,7 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link, sh *shortest) (op
 		// the book prices may be.
 		base, perM := m.cableFor(med, rate, facts, endSlack)
 		var exclude uint64
-		var others []media.Laying // the layings of the classes the first option may not use, in class order
+		var others []laid // the layings of the classes the first option may not use, in class order, with their prices
 		// Another laying's option is left out when no application at the rate on the medium
 		// reaches the shortest route (addOption): then none is looked for.
 		reaches := m.eng.LongestRangeM(med, rate)-riser-coils-endLoops-lateral >= sh.betweenM(dm.Source, dm.Target)
@@ -627,22 +660,22 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link, sh *shortest) (op
 				if !reaches {
 					continue
 				}
-				if other, ok := m.layingFor(med, info, c); ok && other != base && !slices.Contains(others, other) {
+				if other, ok := m.layingFor(med, info, c); ok && other.laying != base && !slices.ContainsFunc(others, func(o laid) bool { return o.laying == other.laying }) {
 					others = append(others, other)
 				}
 			}
 		}
 		oe := optionEnds{riser: riser, lateral: lateral, coils: coils, endLoops: endLoops,
 			ends: ends, endItems: endItems, entered: entered, legBid: legBid, outside: outside, diverse: l.Diverse, sh: sh}
-		m.addOption(s, &dm, &info, med, base, true, perM, exclude, oe)
+		m.addOption(s, &dm, &info, med, laid{laying: base, price: media.LayingPrice{PerMCents: perM}}, true, exclude, oe)
 		for _, other := range others {
 			var ex uint64
 			for _, c := range lay.classes {
-				if !m.allowed(s, med, rate, future, strands, c) || !m.lays(med, other, info, c) {
+				if !m.allowed(s, med, rate, future, strands, c) || !m.lays(med, other.laying, info, c) {
 					ex |= lay.classBit[c]
 				}
 			}
-			m.addOption(s, &dm, &info, med, other, false, -1, ex, oe)
+			m.addOption(s, &dm, &info, med, other, false, ex, oe)
 		}
 		dropOutpriced(&dm, &info, med, sh)
 	}
@@ -692,12 +725,14 @@ type optionEnds struct {
 	sh                                    *shortest
 }
 
-// addOption adds to dm the option of medium laid as lay (optionName: first, the medium's first
-// option, priced perM cents a metre; another, priced as lay by media.Engine.LayingFor),
-// keeping off the edges of exclude, or lists in info why it cannot be one.
-func (m *Model) addOption(s *site.Site, dm *optimize.Demand, info *demandInfo, med string, lay media.Laying, first bool, perM int64, exclude uint64, e optionEnds) {
+// addOption adds to dm the option of medium laid as l.laying (optionName: first, the medium's
+// first option, priced l.price.PerMCents a metre, cableFor's price; another, priced as
+// layingFor found it), keeping off the edges of exclude, or lists in info why it cannot be
+// one.
+func (m *Model) addOption(s *site.Site, dm *optimize.Demand, info *demandInfo, med string, l laid, first bool, exclude uint64, e optionEnds) {
 	d := m.design
-	facts, rate, future, strands := info.facts, info.rate, info.facts.FutureRateGbps, info.strands
+	facts, rate, future := info.facts, info.rate, info.facts.FutureRateGbps
+	lay, perM := l.laying, l.price.PerMCents
 	name := optionName(med, lay, first)
 	mm := m.eng.Catalog().Medium(med)
 	var maxCh float64
@@ -717,9 +752,8 @@ func (m *Model) addOption(s *site.Site, dm *optimize.Demand, info *demandInfo, m
 			return
 		}
 		maxCh = m.reachM(s, med, lay, rate, future, facts, true)
-		price := m.layingPrices[layingKey{medium: med, laying: lay, strands: strands, rate: rate}]
-		perM = price.PerMCents
 		if lay.Inside != "" {
+			price := l.price
 			// The inside cable in the end buildings instead of the outside-plant cable there,
 			// the enclosures and trays at both entrances and the splicing (media.Engine's cost).
 			insideM := items.Wasted(d, facts.InsideAM+facts.InsideBM)
@@ -751,7 +785,7 @@ func (m *Model) addOption(s *site.Site, dm *optimize.Demand, info *demandInfo, m
 	// The cables a leg pulls side by side and their size: known before routing only up to
 	// the construction the rules pick on the route (cableFit: the largest of those it may
 	// run outdoors), as the bill counts them (CableTakeoff.Fit).
-	od, cables := cableFit(mm, strands, facts.CopperCables)
+	od, cables := cableFit(mm, info.strands, facts.CopperCables)
 	// What the leg takes whatever its path: the cable of its risers, laterals, service coils,
 	// entrance loops and the halves of the structure loops at its ends that its spans leave
 	// out (problem), with waste (perM is all its cables'), and for each cable their pulls
@@ -910,20 +944,23 @@ func (m *Model) lays(medium string, lay media.Laying, info demandInfo, c spanCla
 	return v
 }
 
+// laid is a laying and its prices: layingFor's answer.
+type laid struct {
+	laying media.Laying
+	price  media.LayingPrice
+}
+
 // layingFor is the laying of medium the rules let carry the link over spans of class c at
-// the least cost (media.Engine.LayingFor), remembered per plan with its prices
-// (Model.layingPrices, by the laying).
-func (m *Model) layingFor(medium string, info demandInfo, c spanClass) (media.Laying, bool) {
+// the least cost, with its prices (media.Engine.LayingFor), remembered per plan; ok is false
+// when none may.
+func (m *Model) layingFor(medium string, info demandInfo, c spanClass) (l laid, ok bool) {
 	k := m.layingKeyOf(medium, media.Laying{}, info, c)
 	if v, ok := m.layingMemo[k]; ok {
-		return v, v.Construction != ""
+		return v, v.laying.Construction != ""
 	}
-	lay, price, ok := m.eng.LayingFor(medium, info.rate, classFacts(info, c))
-	m.layingMemo[k] = lay
-	if ok {
-		m.layingPrices[layingKey{medium: medium, laying: lay, strands: info.strands, rate: info.rate}] = price
-	}
-	return lay, ok
+	l.laying, l.price, ok = m.eng.LayingFor(medium, info.rate, classFacts(info, c))
+	m.layingMemo[k] = l
+	return l, ok
 }
 
 // allowedFor is allowed for the demand's medium, rate and strands, as remembered: whether

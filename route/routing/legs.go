@@ -224,12 +224,12 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 		}
 		sp := &s.Net.Spans[h.Edge]
 		// The buildings the span runs beneath wall to wall (geo.Span.Beneath), in travel order.
-		for i := range sp.Beneath {
-			if !h.Forward {
-				i = len(sp.Beneath) - 1 - i
-			}
-			leg.crossing(sp.Beneath[i : i+1])
+		beneath := sp.Beneath
+		if !h.Forward && len(beneath) > 1 {
+			beneath = slices.Clone(beneath)
+			slices.Reverse(beneath)
 		}
+		leg.crossing(beneath)
 		if k+1 < len(ol.Hops) {
 			// The junction the route passes after this span: in a building other than the
 			// leg's own, the route crosses that building (allowed there, or it would not pass).

@@ -1,15 +1,12 @@
 package routing
 
 import (
-	"fmt"
 	"slices"
-	"strings"
 	"testing"
 
 	"spanwright/geo"
 	"spanwright/route/internal/testsite"
 	"spanwright/route/plan"
-	"spanwright/route/site"
 )
 
 // TestPassesOfOncePerHandhole holds passesOf to its rule (README, "Structures passed"): a
@@ -21,26 +18,9 @@ import (
 // the strand, and not through the handhole (common practice, no published source).
 func TestPassesOfOncePerHandhole(t *testing.T) {
 	t.Parallel()
-	line := func(id, typ string, pts ...float64) string {
-		var c []string
-		for i := 0; i+1 < len(pts); i += 2 {
-			c = append(c, fmt.Sprintf("[%.7f,%.7f]", testsite.X(pts[i]), testsite.Y(pts[i+1])))
-		}
-		return fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":%q,"type":%q},"geometry":{"type":"LineString","coordinates":[%s]}}`,
-			id, typ, strings.Join(c, ","))
-	}
-	campus := `{"type":"FeatureCollection","features":[` + strings.Join([]string{
-		line("D", "duct", 0, 0, 150, 0, 300, 0), line("L", "duct", 150, 0, 150, 120),
-		line("X", "aerial", 50, -100, 150, 0, 250, -100)}, ",") + `]}`
-	c, err := geo.Parse("t.geojson", []byte(campus))
-	if err != nil {
-		t.Fatal(err)
-	}
-	net, err := geo.Build(c, geo.Options{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	s := site.NewSite(c, net)
+	s := testsite.Campus(t, "t.geojson", testsite.Features(testsite.Pathway("D", geo.TypeDuct, 0, 0, 150, 0, 300, 0),
+		testsite.Pathway("L", geo.TypeDuct, 150, 0, 150, 120), testsite.Pathway("X", geo.TypeAerial, 50, -100, 150, 0, 250, -100)))
+	net := s.Net
 	// J: the junction where all three meet.
 	j := ""
 	for _, m := range net.Meetings {

@@ -58,6 +58,9 @@ type Routed struct {
 	// and for a problem without a fingerprint. routes.geojson carries it (problem_sha256), so
 	// that a warm start from it can tell its own problem (Start.ProblemSHA256).
 	ProblemSHA256 string
+	// Warnings are what the routing leaves for a person to check: handholes at junctions
+	// whose rounds did not settle (unsettledWarning).
+	Warnings []string
 }
 
 // EntranceUse is a building entrance the plan uses.
@@ -250,18 +253,19 @@ func (m *Model) measure(ctx context.Context, s *site.Site, lay *layout, prob *op
 	// before the media are chosen, but for the taps of buildings with one entrance, built when a
 	// feasible leg uses the entrance: taken first as every routed leg's, then as the feasible
 	// legs' until the two agree (a leg the rules reject leaves its tap unbuilt, and the legs
-	// passing that junction are measured again).
+	// passing that junction are measured again; settleHandholes).
 	built := builtOn{along: site.HandholesBySpan(r.Runs)}
 	hs, _ := handholesOf(s, lay, prob, sol, routedTaps(s, lay, sol, links))
-	built.at = handholeJunctions(hs)
 	legs = make([][]Leg, len(links))
-	for round := 1; ; round++ {
+	r.Warnings = nil
+	with, builds, err := settleHandholes(handholeJunctions(hs), func(at map[string]bool) (map[string]bool, error) {
+		built.at = at
 		// Each link's legs are its own (the engine's caches are safe for concurrent use, the
 		// rest is read): worked out side by side, assembled in link order.
 		if err := ctxio.Each(ctx, len(links), func(i int) {
 			legs[i] = legsOf(s, m, lay, prob, &sol.Routes[i], &links[i], infos[i], infeasible[i], built)
 		}); err != nil {
-			return nil, 0, err
+			return nil, err
 		}
 		r.Legs = r.Legs[:0]
 		for _, l := range legs {
@@ -269,11 +273,13 @@ func (m *Model) measure(ctx context.Context, s *site.Site, lay *layout, prob *op
 		}
 		r.Entrances = entrancesUsed(s, lay, r.Legs)
 		r.Handholes, unpaid = handholesOf(s, lay, prob, sol, r.Entrances)
-		at := handholeJunctions(r.Handholes)
-		if maps.Equal(at, built.at) || round == maxHandholeRounds {
-			break
-		}
-		built.at = at
+		return handholeJunctions(r.Handholes), nil
+	})
+	if err != nil {
+		return nil, 0, err
+	}
+	if w := unsettledWarning(with, builds); w != "" {
+		r.Warnings = append(r.Warnings, w)
 	}
 	return legs, unpaid, nil
 }
@@ -397,9 +403,58 @@ func handholesOf(s *site.Site, lay *layout, prob *optimize.Problem, sol *optimiz
 }
 
 // maxHandholeRounds bounds SolveFrom's rounds of measuring the legs against the handholes
-// built at junctions: the second agrees unless a leg the first round's taps made infeasible
-// becomes feasible without them.
+// built at junctions (settleHandholes): the second agrees unless a leg that a tap built for
+// another leg made infeasible becomes feasible without it (a leg's own taps are always
+// counted, passesOf), and that leg's tap in turn makes the other infeasible.
 const maxHandholeRounds = 3
+
+// settleHandholes measures the legs against the handholes built at junctions, first those
+// of at, then those the legs of the round before build (measure: the junctions of the
+// handholes the legs it measured build), until the two agree, for at most maxHandholeRounds
+// rounds; if they still disagree, once more against what the last round builds. It returns
+// the junctions the last round measured the legs against (with) and those that round builds
+// (builds): the same sets unless the rounds did not settle (unsettledWarning). It stops at
+// measure's first error.
+func settleHandholes(at map[string]bool, measure func(at map[string]bool) (map[string]bool, error)) (with, builds map[string]bool, err error) {
+	for round := 1; ; round++ {
+		builds, err = measure(at)
+		if err != nil || maps.Equal(builds, at) || round > maxHandholeRounds {
+			return at, builds, err
+		}
+		at = builds
+	}
+}
+
+// unsettledWarning is the warning of handholes at junctions that SolveFrom's rounds left
+// unsettled (settleHandholes): the legs were measured with handholes at junctions of with,
+// and build those of builds. "" when the two are the same. Every leg is as measured; the
+// handholes listed and billed are those it builds, so a leg passing a junction of one set and
+// not the other has a structures list (and slack loops, loss budget) that disagrees there.
+func unsettledWarning(with, builds map[string]bool) string {
+	if maps.Equal(with, builds) {
+		return ""
+	}
+	var extra, missing []string
+	for _, j := range slices.Sorted(maps.Keys(with)) {
+		if !builds[j] {
+			extra = append(extra, j)
+		}
+	}
+	for _, j := range slices.Sorted(maps.Keys(builds)) {
+		if !with[j] {
+			missing = append(missing, j)
+		}
+	}
+	var parts []string
+	if len(extra) > 0 {
+		parts = append(parts, "the legs through "+strings.Join(extra, ", ")+" are measured with a handhole there that the plan does not build")
+	}
+	if len(missing) > 0 {
+		parts = append(parts, "the legs through "+strings.Join(missing, ", ")+" are measured without the handhole the plan builds there")
+	}
+	return fmt.Sprintf("the handholes at junctions did not settle in %d rounds (a leg's loss budget or reach turns on a handhole that another leg's feasibility builds): %s; check their structures passed, slack loops and loss budgets against the structures table",
+		maxHandholeRounds+1, strings.Join(parts, ", and "))
+}
 
 // handholeJunctions is the set of the junctions of hs.
 func handholeJunctions(hs []Handhole) map[string]bool {
@@ -442,15 +497,12 @@ func (m *Model) passGapCents(s *site.Site, lay *layout, prob *optimize.Problem, 
 	if !rt.Feasible {
 		return 0
 	}
-	var opt *optimize.Option
-	for o := range prob.Demands[d].Options {
-		if prob.Demands[d].Options[o].Name == rt.Medium {
-			opt = &prob.Demands[d].Options[o]
-		}
-	}
-	if opt == nil {
+	options := prob.Demands[d].Options
+	o := slices.IndexFunc(options, func(o optimize.Option) bool { return o.Name == rt.Medium })
+	if o < 0 {
 		return 0
 	}
+	opt := &options[o]
 	dsg := m.design
 	cables := float64(max(opt.Cables, 1))
 	loopCents := func(n float64) int64 { // n slack loops of each cable, with their bid items per structure passed
@@ -465,23 +517,11 @@ func (m *Model) passGapCents(s *site.Site, lay *layout, prob *optimize.Problem, 
 		if k >= len(ol) || len(ol[k].Hops) == 0 || !legs[k].Feasible {
 			continue // a leg the rules reject is the optimizer's as routed: the bill has none of it
 		}
-		var loops, crews float64 // what the edges priced
+		loops := endTaps(s, lay, legs[k].Link) // what the demand and the edges priced
+		crews := loops
 		for _, h := range ol[k].Hops {
-			x, extra := lay.isExtra(len(s.Net.Spans), h.Edge)
-			switch {
-			case !extra:
-				n := 0.5 * lay.joinEnds(s, h.Edge)
-				loops, crews = loops+n, crews+n
-			case x.kind == edgeTurn:
-				crews += float64(lay.turnShare(x.from, x.to)) / 2
-			case x.kind == edgeEntrance && x.entry.LateralM > 0 && s.TapOf(x.entry):
-				loops, crews = loops+1, crews+1
-			}
-		}
-		for _, b := range []string{legs[k].Link.To, legs[k].Link.From} {
-			if e, ok := lay.endEntry[b]; ok && s.TapOf(e) {
-				loops, crews = loops+1, crews+1 // the demand's (demand)
-			}
+			l, c := pricedPasses(s, lay, h.Edge)
+			loops, crews = loops+l, crews+c
 		}
 		passes := 0.0
 		for _, p := range legs[k].Cable.Passed {

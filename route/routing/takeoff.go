@@ -203,10 +203,11 @@ type builtOn struct {
 // passesOf lists the maintenance holes and handholes a leg's cable passes, in travel order
 // from the served building, each once, with where it is along the channel: the campus's own
 // at the junctions of its route, its ends included (items.Entered), and the handholes the
-// plan builds (Added) at the junctions of its route (built.at) and along the runs of new
-// construction on its spans (built.along). It is the leg's one list of structures: the slack
-// loops, the crew's entries and pull set-ups, the bid items per structure passed, the
-// structures table's legs and links.csv's structures_passed all read it.
+// plan builds (Added) at the junctions of its route (built.at, and where its own laterals tap
+// a duct) and along the runs of new construction on its spans (built.along). It is the leg's
+// one list of structures: the slack loops, the crew's entries and pull set-ups, the bid items
+// per structure passed, the structures table's legs and links.csv's structures_passed all
+// read it.
 //
 // A handhole built at a junction is built into the duct runs that meet there (the ducts are
 // broken out into it, as at a maintenance hole on a run), so every leg whose route passes the
@@ -226,27 +227,26 @@ func passesOf(s *site.Site, d plan.Design, leg *Leg, built builtOn) ([]SplicePoi
 		p.ChannelM = at
 		out = append(out, p)
 	}
-	lateralOf := func(b, id string) float64 {
-		for _, e := range s.Net.EntrancesOf(b) {
-			if e.ID == id {
-				return e.LateralM
-			}
-		}
-		return 0
-	}
-	to := ""
+	to, from := "", ""
 	if leg.Link != nil {
-		to = leg.Link.To
+		to, from = leg.Link.To, leg.Link.From
 	}
-	latTo := lateralOf(to, leg.EntranceTo)
-	at = s.RiserM(to) + d.SlackM + d.SlackLoopEntranceM + latTo
+	entry, _ := s.Net.Entry(to, leg.EntranceTo)
+	far, _ := s.Net.Entry(from, leg.EntranceFrom)
+	// The handholes where the leg's own laterals tap a duct are built whenever the leg is
+	// (handholesOf: the taps of the entrances used), so it is measured with them whatever
+	// built.at says: a leg whose loss budget or reach fails with its tap's slack loop is
+	// infeasible, not feasible in a round that left its tap out (SolveFrom's rounds).
+	tapTo, tapFrom := tapOf(s, entry), tapOf(s, far)
+	ownTap := func(j string) bool { return j != "" && (j == tapTo || j == tapFrom) }
+	at = s.RiserM(to) + d.SlackM + d.SlackLoopEntranceM + entry.LateralM
 	juncs := s.JunctionsOf(leg.Steps)
 	atJunction := func(k int) {
 		j := juncs[k]
 		switch {
 		case items.Entered(s, j):
 			pass(SplicePoint{ID: j})
-		case built.at[j] && throughHandhole(s, leg, juncs, k):
+		case (built.at[j] || ownTap(j)) && throughHandhole(s, leg, juncs, k):
 			pass(SplicePoint{ID: j, Added: true})
 		}
 	}

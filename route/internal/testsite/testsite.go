@@ -140,7 +140,14 @@ func Synth(tb testing.TB, n int) *site.Site {
 // NewSynth builds a site of its own on the synthetic campus of about n buildings.
 func NewSynth(tb testing.TB, n int) *site.Site {
 	tb.Helper()
-	c, err := geo.Parse("synthetic.geojson", SynthCampus(n))
+	return Campus(tb, "synthetic.geojson", SynthCampus(n))
+}
+
+// Campus builds the site of a campus file's contents (data, named name in messages) with
+// geo's default options.
+func Campus(tb testing.TB, name string, data []byte) *site.Site {
+	tb.Helper()
+	c, err := geo.Parse(name, data)
 	if err != nil {
 		tb.Fatal(err)
 	}
@@ -149,6 +156,11 @@ func NewSynth(tb testing.TB, n int) *site.Site {
 		tb.Fatal(err)
 	}
 	return site.NewSite(c, net)
+}
+
+// Features is a campus file of the GeoJSON features given (Box, Pathway).
+func Features(features ...string) []byte {
+	return []byte(`{"type":"FeatureCollection","features":[` + strings.Join(features, ",") + `]}`)
 }
 
 // SynthPlan is the benchmark plan: one link per building to its nearest cross-connect,
@@ -210,6 +222,17 @@ func Box(id, role string, x, y float64) string {
 	}
 	return fmt.Sprintf(`{"type":"Feature","properties":{"kind":"building","id":%q%s},"geometry":{"type":"Polygon","coordinates":[[[%.7f,%.7f],[%.7f,%.7f],[%.7f,%.7f],[%.7f,%.7f],[%.7f,%.7f]]]}}`,
 		id, r, X(x-10), Y(y-10), X(x+10), Y(y-10), X(x+10), Y(y+10), X(x-10), Y(y+10), X(x-10), Y(y-10))
+}
+
+// Pathway is a pathway of type typ through points of the pull grid (x, y in metres), as a
+// GeoJSON feature.
+func Pathway(id, typ string, pts ...float64) string {
+	var c []string
+	for i := 0; i+1 < len(pts); i += 2 {
+		c = append(c, fmt.Sprintf("[%.7f,%.7f]", X(pts[i]), Y(pts[i+1])))
+	}
+	return fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":%q,"type":%q},"geometry":{"type":"LineString","coordinates":[%s]}}`,
+		id, typ, strings.Join(c, ","))
 }
 
 func PullCampus(ductMM float64, spare int) string {
