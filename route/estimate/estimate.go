@@ -1207,6 +1207,16 @@ func PatchCordItem(cat *media.Catalog, l *routing.Leg) string {
 	return item
 }
 
+// ProtectorItem is the bill item of the primary protectors of a copper leg whose route leaves
+// the buildings (routing.Leg.Outdoor): one at each end of each 4-pair cable, where it enters
+// the building from outside. NFPA 70 800.90 (Article 805 for communications circuits) asks
+// for a listed primary protector there wherever the circuit is exposed to lightning or
+// accidental contact with power conductors, which the plan cannot tell from the campus, so
+// every such end is counted. Priced at primary_protector_each, or listed not priced
+// (media.PriceBook.NotPriced). The bonding conductor to the building's grounding electrode
+// system is part of the protector's installation here (NFPA 70 800.100), not a line of its own.
+const ProtectorItem = "primary protector, copper cable end entering a building"
+
 // SplicePointToBuild is one splice point to build: its place (the first leg's join there;
 // on a span when Span is set, else off the spans along that leg's cable) and the legs joining
 // there, as indexes into the result's legs, in leg order.
@@ -1259,6 +1269,9 @@ func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg) []
 		work("certify copper channels", media.UnitEach, float64(t.Terminated), media.PriceKey{Item: media.RateLossTest})
 	}
 	add(media.CategoryMaterial, PatchCordItem(eng.Catalog(), l), media.UnitEach, 2, media.PriceKey{Item: media.PricePatchCord, Medium: l.Medium})
+	if !fibre && l.Outdoor {
+		add(media.CategoryMaterial, ProtectorItem, media.UnitEach, ends, media.PriceKey{Item: media.PriceProtector})
+	}
 	if a := eng.Catalog().Application(l.Application); a != nil {
 		add(media.CategoryOptics, "transceiver "+a.Transceiver, media.UnitEach, 2, media.PriceKey{Item: media.PriceTransceiver, Name: a.Transceiver})
 	}
@@ -1503,8 +1516,8 @@ func (r *run) bidBases() media.BidBases {
 }
 
 // legCost prices a leg's bill items one by one (media.PriceBook.Cents) into its breakdown:
-// cables, transitions and reel joins as cable; terminations, patch cords and transceivers
-// as optics; labour; innerduct as construction.
+// cables, transitions and reel joins as cable; terminations, patch cords, primary
+// protectors and transceivers as optics; labour; innerduct as construction.
 func legCost(p *media.PriceBook, qs []media.Quantity) routing.LegCost {
 	var c routing.LegCost
 	for _, q := range qs {
@@ -1512,7 +1525,8 @@ func legCost(p *media.PriceBook, qs []media.Quantity) routing.LegCost {
 		switch {
 		case q.Category == media.CategoryLabour:
 			c.LabourCents += x
-		case q.Category == media.CategoryOptics, q.Price.Item == media.PriceTermination, q.Price.Item == media.PricePatchCord:
+		case q.Category == media.CategoryOptics, q.Price.Item == media.PriceTermination, q.Price.Item == media.PricePatchCord,
+			q.Price.Item == media.PriceProtector:
 			c.OpticsCents += x
 		case q.Price.Item == media.PriceInnerduct, q.Category == media.CategoryConstruction:
 			c.ConstructionCents += x

@@ -41,6 +41,9 @@ type Leg struct {
 	RouteM   float64    // along pathways, laterals at both ends included, in metres
 	LateralM float64    // the laterals alone, in metres
 	RiserM   float64    // risers at both ends, in metres
+	// Outdoor is whether the route leaves the buildings (a span other than a tray, or a
+	// lateral; media.Link.Outdoor): its cable then enters both end buildings from outside.
+	Outdoor  bool
 	Feasible bool
 	Reason   string // why the leg is infeasible, or notes
 	// ReasonCode is the short stable code of why the leg is infeasible, or of how its medium
@@ -97,7 +100,7 @@ type LegCost struct {
 	// the optimizer prices it (bill construction: trench, added duct, handholes, entrances),
 	// with the bid items per metre of new buried work the optimizer prices with the trench.
 	ConstructionCents int64
-	OpticsCents       int64 // terminations and patch cords (bill material), transceivers (bill optics)
+	OpticsCents       int64 // terminations, patch cords and primary protectors (bill material), transceivers (bill optics)
 }
 
 // TotalCents is the sum of the breakdown.
@@ -265,7 +268,7 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 		facts.CrossedInsideM += interiorM(s, b, ol)
 	}
 	facts.MaxEMI = emi
-	facts.Outdoor = outdoor
+	facts.Outdoor, leg.Outdoor = outdoor, outdoor
 	facts.Plenum = plenum
 	for t := range types {
 		facts.PathwayTypes = append(facts.PathwayTypes, t)

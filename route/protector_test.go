@@ -1,0 +1,90 @@
+package route_test
+
+import (
+	"os"
+	"path/filepath"
+	"slices"
+	"testing"
+
+	"spanwright/media"
+	"spanwright/route"
+	"spanwright/route/estimate"
+	"spanwright/route/internal/testplan"
+	"spanwright/route/output"
+	"spanwright/route/plan"
+)
+
+// TestPrimaryProtectors (tester 8's finding 2): copper entering a building from outside needs
+// a listed primary protector at the entrance (NFPA 70 800.90, seen; the copper caution's
+// source), so a copper leg whose route leaves the buildings buys one at each end of each
+// 4-pair cable. A book without primary_protector_each lists them not priced, with their
+// count, and names the key in the summary (as a bid lists its exclusions: common practice, no
+// published source); a book with it prices them, in the leg's terminations and transceivers
+// cost. A fibre leg buys none.
+func TestPrimaryProtectors(t *testing.T) {
+	t.Parallel()
+	copperOnly := copperOnlyRules(t)
+	solve := func(t *testing.T, edit func(p *plan.Plan)) *route.Result {
+		t.Helper()
+		r, err := testplan.PullSolveJSON(t, copperCampus(), func(p *plan.Plan) {
+			p.Links = []plan.LinkSpec{{From: "A", To: "B", Rate: "1G", Strands: 4, Growth: new(float64)}}
+			p.Design.AllowOutdoorCopper = true
+			p.Rules = copperOnly
+			if edit != nil {
+				edit(p)
+			}
+		})
+		if err != nil {
+			t.Fatal(err)
+		}
+		return r
+	}
+
+	r := solve(t, nil)
+	_, leg := testplan.LegOf(t, r, "A-B")
+	if m := r.Engine.Catalog().Medium(leg.Medium); m == nil || m.Fibre() || !leg.Outdoor {
+		t.Fatalf("leg A-B: medium %q, outdoor %v; want copper leaving the buildings", leg.Medium, leg.Outdoor)
+	}
+	want := float64(2 * leg.Cable.Cables) // one at each end of each 4-pair cable
+	if want < 4 {
+		t.Fatalf("leg A-B: %d cables, want 2 (4 strands, one 4-pair cable per two)", leg.Cable.Cables)
+	}
+	line, ok := testplan.BOMLine(r.Estimate.BOM, estimate.ProtectorItem)
+	if !ok || line.Quantity != want || !line.NotPriced || line.ExtendedCents != 0 || line.Category != media.CategoryMaterial {
+		t.Errorf("without a price: protector line %+v (found %v), want %g not priced", line, ok, want)
+	}
+	if got := output.Summarize(r).NotPriced; !slices.Contains(got, "primary_protector_each") {
+		t.Errorf("without a price: summary not_priced %q, want primary_protector_each", got)
+	}
+
+	data, err := os.ReadFile(filepath.Join("..", "media", "prices-demo.yaml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	path := filepath.Join(t.TempDir(), "prices.yaml")
+	if err := os.WriteFile(path, append(data, "primary_protector_each: 85.00\n"...), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	r2 := solve(t, func(p *plan.Plan) { p.Prices = path })
+	_, leg2 := testplan.LegOf(t, r2, "A-B")
+	line, ok = testplan.BOMLine(r2.Estimate.BOM, estimate.ProtectorItem)
+	if !ok || line.NotPriced || line.Quantity != want || line.ExtendedCents != int64(want)*8500 {
+		t.Errorf("priced: protector line %+v (found %v), want %g at 85.00", line, ok, want)
+	}
+	if got := leg2.Cost.OpticsCents - leg.Cost.OpticsCents; got != int64(want)*8500 {
+		t.Errorf("priced: the leg's terminations and transceivers cost grew by %d cents, want %d", got, int64(want)*8500)
+	}
+	if got := output.Summarize(r2).NotPriced; slices.Contains(got, "primary_protector_each") {
+		t.Errorf("priced: summary not_priced %q", got)
+	}
+
+	// The same link without outdoor copper, on fibre, buys no protector.
+	r3 := solve(t, func(p *plan.Plan) { p.Rules, p.Prices, p.Design.AllowOutdoorCopper = "", path, false })
+	_, leg3 := testplan.LegOf(t, r3, "A-B")
+	if m := r3.Engine.Catalog().Medium(leg3.Medium); m == nil || !m.Fibre() {
+		t.Fatalf("embedded rules: leg A-B on %q, want fibre", leg3.Medium)
+	}
+	if _, ok := testplan.BOMLine(r3.Estimate.BOM, estimate.ProtectorItem); ok {
+		t.Errorf("fibre leg: the bill buys primary protectors")
+	}
+}
