@@ -1475,7 +1475,8 @@ func (r *run) quantities() {
 
 // bidBases counts, once, the quantities the price book's bid items may be priced per unit of:
 // new trench and bore metres (Construction.NewM); metres of aerial spans and of existing duct
-// spans (not opened by the plan) that feasible legs use, each span once; structure entries,
+// spans (not opened by the plan) that feasible legs use, each span once, the latter only where
+// a cable goes into an existing duct of it (intoExistingDuct); structure entries,
 // one per cable per structure its route passes; buildings terminating cable; cable ends (routing.CableTakeoff.CableEnds:
 // two per cable and those transitions and mid-span joins add); feasible legs.
 func (r *run) bidBases() media.BidBases {
@@ -1503,16 +1504,35 @@ func (r *run) bidBases() media.BidBases {
 		}
 	}
 	sort.Strings(spans) // in one order: a float sum depends on it
+	existing := r.intoExistingDuct()
 	for _, id := range spans {
 		sp, _ := r.Site.Net.Span(id)
 		switch {
 		case sp.Type == geo.TypeAerial:
 			b.AerialM += sp.LengthM
-		case sp.Type == geo.TypeDuct && !opened[id]:
+		case sp.Type == geo.TypeDuct && !opened[id] && existing(id):
 			b.ExistingDuctM += sp.LengthM
 		}
 	}
 	return b
+}
+
+// intoExistingDuct reports, of an existing duct span a leg uses, whether a cable is pulled
+// into one of its existing ducts: on a span of limited capacity, whether the packing
+// (Estimate.Fill, after ductFill) put a cable in a duct of it the plan does not add; on any
+// other, always. A span whose every cable went into ducts laid beside it (spare_ducts 0,
+// tester 8's finding 12) has no existing duct to prove and clean.
+func (r *run) intoExistingDuct() func(span string) bool {
+	limited, existing := map[string]bool{}, map[string]bool{}
+	for _, f := range r.Fill {
+		limited[f.Span] = limited[f.Span] || f.Limited
+	}
+	for _, f := range r.Estimate.Fill {
+		if !f.Added && !f.Unplaced {
+			existing[f.Span] = true
+		}
+	}
+	return func(span string) bool { return !limited[span] || existing[span] }
 }
 
 // legCost prices a leg's bill items one by one (media.PriceBook.Cents) into its breakdown:

@@ -1023,3 +1023,33 @@ func TestPatchCordItem(t *testing.T) {
 		t.Error("the demo bills no duplex os2 patch cord")
 	}
 }
+
+// TestExistingDuctUsedOnlyWhereCablesGoIn (tester 8's finding 12): with no spare duct in D
+// (spare_ducts 0), every cable along it goes into ducts the plan lays beside it, so none of
+// D's existing ducts is entered and none needs proving and cleaning: the per_m_existing_duct_used
+// base counts only the spans where the packing put a cable into an existing duct (none here),
+// while with a spare duct it is all of D (TestBidBases). Common practice, no published source:
+// a duct is proved (mandrelled) and cleaned before a cable is pulled into it.
+func TestExistingDuctUsedOnlyWhereCablesGoIn(t *testing.T) {
+	t.Parallel()
+	r, err := testplan.PullSolve(t, 25, 0, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	onD, added := 0, 0
+	for _, f := range r.Estimate.Fill {
+		if f.PathwayID != "D" {
+			continue
+		}
+		onD++
+		if f.Added {
+			added++
+		}
+	}
+	if onD == 0 || added != onD {
+		t.Fatalf("campus changed: %d duct rows on D, %d of them added; want every cable on D in an added duct", onD, added)
+	}
+	if bs := r.Estimate.Bases; bs.ExistingDuctM != 0 {
+		t.Errorf("existing duct used %.2f m, want 0: no cable enters D's existing ducts", bs.ExistingDuctM)
+	}
+}
