@@ -205,6 +205,10 @@ type Construction struct {
 	// AddedDuctWalls is the building walls that ducts added beside full ones enter where the
 	// full ducts already do: each takes a penetration of its own (items.AddedDuctWalls).
 	AddedDuctWalls int
+	// HoleWalls is the walls of existing maintenance holes that new duct enters (opened duct
+	// spans and ducts added beside full ones): each takes an entry (items.HoleWalls,
+	// items.HoleEntries).
+	HoleWalls int
 	// NewJunctions, TapJunctions and TurnJunctions are the handholes the plan adds at
 	// junctions with no structure (routing.Routed.Handholes), each junction in one of them
 	// only, under the first of its reasons (routing.Handhole.Purpose), by junction ID in the
@@ -299,6 +303,7 @@ const (
 	keyBore      = "\x00bore"
 	keyAddedDuct = "\x00added duct"
 	keyDuctWall  = "\x00added duct's wall"
+	keyHoleWall  = "\x00new duct's maintenance hole wall"
 )
 
 // Sources of bill quantities (media.Quantity.From).
@@ -1106,6 +1111,7 @@ func (r *run) construction() {
 			}
 			c.AddedDuctM += float64(n) * sp.LengthM
 			r.newFrom[keyAddedDuct] = append(r.newFrom[keyAddedDuct], fromSpan(id))
+			c.holeWalls(s, &sp, r.newFrom)
 		}
 	}
 	for _, run := range r.Runs {
@@ -1151,12 +1157,22 @@ func (r *run) construction() {
 				c.AddedDuctWalls += n
 				r.newFrom[keyDuctWall] = append(r.newFrom[keyDuctWall], fromSpan(f.Span))
 			}
+			c.holeWalls(s, &sp, r.newFrom)
 		}
 	}
 	c.listPieces()
 	r.Estimate.Construction = c
 	if w := c.assumedWarning(); w != "" {
 		r.Estimate.Warnings = append(r.Estimate.Warnings, w)
+	}
+}
+
+// holeWalls counts the walls of existing maintenance holes the new duct along span sp enters
+// (items.HoleWalls), and the span among those the bill line is from.
+func (c *Construction) holeWalls(s *site.Site, sp *geo.Span, from map[string][]string) {
+	if n := items.HoleWalls(s, sp); n > 0 {
+		c.HoleWalls += n
+		from[keyHoleWall] = append(from[keyHoleWall], fromSpan(sp.ID))
 	}
 }
 
@@ -1408,6 +1424,9 @@ func (r *run) quantities() {
 	}
 	for _, q := range items.AddedDuctEntrances(p, con.AddedDuctWalls) {
 		e.Quantities = append(e.Quantities, one(q, r.newFrom[keyDuctWall]))
+	}
+	for _, q := range items.HoleEntries(con.HoleWalls) {
+		e.Quantities = append(e.Quantities, one(q, r.newFrom[keyHoleWall]))
 	}
 	// The entries, new or there already (items.Entrance), one line of each.
 	for _, built := range []bool{false, true} {

@@ -306,6 +306,9 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 		if sp.Status == geo.StatusProposed {
 			open := items.Opening(d, sp, items.MethodOf(m.prices, d, sp))
 			e.Proposed, e.FixedCents = true, m.cents(open...)+m.bidPer(media.BidBases{NewBuriedM: 1}, sp.LengthM)
+			if sp.Type == geo.TypeDuct {
+				e.FixedCents += m.cents(items.HoleEntries(items.HoleWalls(s, sp))...) // its ducts into existing maintenance holes
+			}
 			if n := len(runHH[sp.ID]); n > 0 {
 				e.FixedCents += m.cents(items.RunHandholes(n))
 			}
@@ -327,7 +330,9 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 				e.AddTrenchDucts = items.NewDucts(d) // the trench is laid with the design's ducts at least (optimize.Edge.LaidDucts)
 				// The ducts enter a building through a wall the full ones already enter: a
 				// penetration of their own, paid with the trench.
-				e.AddTrenchCents = m.cents(items.AddedDuctEntrances(m.prices, items.AddedDuctWalls(builtAt, sp))...)
+				// Likewise where they enter an existing maintenance hole.
+				e.AddTrenchCents = m.cents(items.AddedDuctEntrances(m.prices, items.AddedDuctWalls(builtAt, sp))...) +
+					m.cents(items.HoleEntries(items.HoleWalls(s, sp))...)
 			}
 		}
 		p.Edges[i] = e
