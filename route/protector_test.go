@@ -1,8 +1,6 @@
 package route_test
 
 import (
-	"os"
-	"path/filepath"
 	"slices"
 	"testing"
 
@@ -57,14 +55,7 @@ func TestPrimaryProtectors(t *testing.T) {
 		t.Errorf("without a price: summary not_priced %q, want primary_protector_each", got)
 	}
 
-	data, err := os.ReadFile(filepath.Join("..", "media", "prices-demo.yaml"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	path := filepath.Join(t.TempDir(), "prices.yaml")
-	if err := os.WriteFile(path, append(data, "primary_protector_each: 85.00\n"...), 0o644); err != nil {
-		t.Fatal(err)
-	}
+	path := testplan.DemoBookWith(t, "primary_protector_each: 85.00\n")
 	r2 := solve(t, func(p *plan.Plan) { p.Prices = path })
 	_, leg2 := testplan.LegOf(t, r2, "A-B")
 	line, ok = testplan.BOMLine(r2.Estimate.BOM, estimate.ProtectorItem)

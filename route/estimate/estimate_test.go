@@ -1098,14 +1098,7 @@ func TestHoleEntries(t *testing.T) {
 		t.Errorf("without a price: summary not_priced %q", got)
 	}
 
-	data, err := os.ReadFile(filepath.Join("..", "..", "media", "prices-demo.yaml"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	path := filepath.Join(t.TempDir(), "prices.yaml")
-	if err := os.WriteFile(path, append(data, "maintenance_hole_entry_each: 950.00\n"...), 0o644); err != nil {
-		t.Fatal(err)
-	}
+	path := testplan.DemoBookWith(t, "maintenance_hole_entry_each: 950.00\n")
 	r2 := solve(mh, func(p *plan.Plan) { p.Prices = path })
 	line, ok = testplan.BOMLine(r2.Estimate.BOM, items.HoleEntryItem)
 	if !ok || line.NotPriced || line.Quantity != float64(walls) || line.ExtendedCents != int64(walls)*95000 {
