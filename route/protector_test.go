@@ -2,6 +2,7 @@ package route_test
 
 import (
 	"slices"
+	"strings"
 	"testing"
 
 	"spanwright/media"
@@ -77,5 +78,49 @@ func TestPrimaryProtectors(t *testing.T) {
 	}
 	if _, ok := testplan.BOMLine(r3.Estimate.BOM, estimate.ProtectorItem); ok {
 		t.Errorf("fibre leg: the bill buys primary protectors")
+	}
+}
+
+// TestCopperLegsInTheirOwnTerms (tester 8's finding 8): a copper leg's strands are its pairs,
+// four to each 4-pair cable (ANSI/TIA-568.2: a 4-pair cable serves one port, seen), not the
+// fibre cable size the plan's strands round up to; and where unlisted outdoor copper would run
+// more than 15 m inside a building (NFPA 70 770.48 as the rule entrance-15m applies it), the
+// refusal names the building at each end with its metres.
+func TestCopperLegsInTheirOwnTerms(t *testing.T) {
+	t.Parallel()
+	copperOnly := copperOnlyRules(t)
+	solve := func(campus string) *route.Result {
+		r, err := testplan.PullSolveJSON(t, campus, func(p *plan.Plan) {
+			p.Links = []plan.LinkSpec{{From: "A", To: "B", Rate: "1G", Strands: 2, Growth: new(float64)}}
+			p.Design.AllowOutdoorCopper = true
+			p.Rules = copperOnly
+		})
+		if err != nil {
+			t.Fatal(err)
+		}
+		return r
+	}
+	_, leg := testplan.LegOf(t, solve(copperCampus()), "A-B")
+	if leg.Medium != "cat6a" || leg.Cable.Cables != 1 || leg.StrandsCable != 4 {
+		t.Errorf("copper leg: medium %q, %d cables, strands %d; want cat6a, one 4-pair cable, 4 pairs", leg.Medium, leg.Cable.Cables, leg.StrandsCable)
+	}
+
+	// Risers of 12 m at B: 12 + 5 m coil + 3 m loop = 20 m inside B, 1 + 8 = 9 m inside A.
+	tall := strings.Replace(copperCampus(), `"riser_m":1,"id":"B"`, `"riser_m":12,"id":"B"`, 1)
+	if tall == copperCampus() {
+		t.Fatal("campus changed: no riser_m of B to raise")
+	}
+	r := solve(tall)
+	var why string
+	for _, l := range r.Legs {
+		for _, rj := range l.Rejected {
+			if rj.Medium == "cat6a" {
+				why += rj.Reason
+			}
+		}
+		why += l.Reason
+	}
+	if !strings.Contains(why, "entrance-15m") || !strings.Contains(why, "20 m inside B") || !strings.Contains(why, "9 m inside A") {
+		t.Errorf("copper refused without naming the buildings: %q", why)
 	}
 }

@@ -41,6 +41,10 @@ func CopperCables(required int, growth float64) int {
 	return max(1, (n+1)/2)
 }
 
+// PairsPerCable is the pairs of a copper backbone cable, the only copper cable the catalog
+// lists: 4-pair (ANSI/TIA-568.2).
+const PairsPerCable = 4
+
 // ConnectorPairs is the number of mated connector pairs in a backbone channel: one patch
 // panel at each end (ANSI/TIA-568.3-D channel model).
 const ConnectorPairs = 2
@@ -589,7 +593,7 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link, sh *shortest) (op
 	insideFrom := s.RiserM(l.From) + d.SlackM + d.SlackLoopEntranceM
 	facts := media.Link{ID: l.ID, RiserM: riser, SlackM: slack, RateGbps: rate, FutureRateGbps: future,
 		MaxEMI: geo.EMINone, ConnectorPairs: ConnectorPairs, Strands: strands, CopperCables: CopperCables(l.Strands, l.Growth),
-		InsideAM: insideTo, InsideBM: insideFrom}
+		InsideAM: insideTo, InsideBM: insideFrom, EndA: l.To, EndB: l.From}
 	info := demandInfo{facts: facts, rate: rate, strands: strands}
 	dm := optimize.Demand{ID: l.ID, Source: int(srcN), Target: int(dstN), Diverse: l.Diverse}
 	if !okS || !okD {

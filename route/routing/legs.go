@@ -64,11 +64,14 @@ type Leg struct {
 	Turns []string
 
 	// The medium decision, filled by the media rule engine.
-	Medium        string       // catalog medium id, e.g. "os2"; "" when infeasible
-	Application   string       // IEEE 802.3 PHY, e.g. "10GBASE-LR"
-	Construction  string       // cable construction id
-	Inside        string       // with an entrance transition: the listed construction spliced on at both entrances; "" without
-	StrandsCable  int          // strands (or copper pairs) of the cable installed, after growth and rounding
+	Medium       string // catalog medium id, e.g. "os2"; "" when infeasible
+	Application  string // IEEE 802.3 PHY, e.g. "10GBASE-LR"
+	Construction string // cable construction id
+	Inside       string // with an entrance transition: the listed construction spliced on at both entrances; "" without
+	// StrandsCable is the strands of the cable installed, after growth and rounding to a
+	// cable size; on a feasible copper leg its pairs instead, PairsPerCable per 4-pair cable
+	// (an infeasible leg keeps the strands asked, rounded as fibre).
+	StrandsCable  int
 	Losses        []media.Loss // per wavelength, fibre only
 	WorstMarginDB float64      // smallest loss margin over the operating wavelengths; 0 for copper
 	Choice        string       // the rule engine's reason for the medium
@@ -297,6 +300,11 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 	}
 	leg.Feasible = true
 	leg.Cable.Fit(cm.eng.Catalog(), ch, facts.InsideAM, facts.InsideBM, cm.design.WastePct)
+	if m := cm.eng.Catalog().Medium(ch.Medium); m != nil && !m.Fibre() {
+		// Copper counts pairs, four to each 4-pair cable, not the fibre cable size the
+		// plan's strands would round up to (ANSI/TIA-568.2: a 4-pair cable serves one port).
+		leg.StrandsCable = PairsPerCable * leg.Cable.Cables
+	}
 	if joins := leg.Cable.Joins; ch.Inside != "" {
 		// With an entrance transition the reels are the outside cable's (cutOutside): fewer
 		// joins there are fewer splices in the loss budget, which the engine checks again; if
