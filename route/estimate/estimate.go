@@ -1225,12 +1225,13 @@ func PatchCordItem(cat *media.Catalog, l *routing.Leg) string {
 
 // ProtectorItem is the bill item of the primary protectors of a copper leg whose route leaves
 // the buildings (routing.Leg.Outdoor): one at each end of each 4-pair cable, where it enters
-// the building from outside. NFPA 70 800.90 (Article 805 for communications circuits) asks
-// for a listed primary protector there wherever the circuit is exposed to lightning or
-// accidental contact with power conductors, which the plan cannot tell from the campus, so
-// every such end is counted. Priced at primary_protector_each, or listed not priced
-// (media.PriceBook.NotPriced). The bonding conductor to the building's grounding electrode
-// system is part of the protector's installation here (NFPA 70 800.100), not a line of its own.
+// the building from outside. NFPA 70 800.90 (seen; Article 805 for communications circuits)
+// asks for a listed primary protector there wherever the circuit is exposed (to lightning, or
+// to accidental contact with power conductors: from memory), which the plan cannot tell from
+// the campus, so every such end is counted. Priced at primary_protector_each, or listed not
+// priced (media.PriceBook.NotPriced). The bonding conductor to the building's grounding
+// electrode system is part of the protector's installation here (NFPA 70 800.100, from
+// memory), not a line of its own.
 const ProtectorItem = "primary protector, copper cable end entering a building"
 
 // SplicePointToBuild is one splice point to build: its place (the first leg's join there;
