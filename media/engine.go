@@ -435,6 +435,7 @@ func (e *Engine) evaluate(c *candidate, l Link, at lengths, mi, ai, ki int, insi
 	f[fAllowOutdoorCopper].b = e.opt.AllowOutdoorCopper
 	ia, ib := l.insideM()
 	f[fInsideAM].num, f[fInsideBM].num, f[fInsideMaxM].num = ia, ib, max(ia, ib)
+	f[fEndA].str, f[fEndB].str = cmp.Or(l.EndA, "the building at one end"), cmp.Or(l.EndB, "the building at the other end")
 	if !m.Fibre() {
 		f[fCordsM].num = e.cordsM
 		f[fCopperChannelM].num = channel + e.cordsM
@@ -661,13 +662,14 @@ type chooseKey struct {
 	types                                        string
 	pairs, splices, strands, copper              int
 	insideA, insideB, crossed                    float64
+	endA, endB                                   string
 }
 
 func keyOf(l Link) chooseKey {
 	return chooseKey{id: l.ID, routeM: l.RouteM, riserM: l.RiserM, slackM: l.SlackM, rateGbps: l.RateGbps,
 		futureGbps: l.FutureRateGbps, emi: l.MaxEMI, outdoor: l.Outdoor, plenum: l.Plenum, types: strings.Join(l.PathwayTypes, "\x00"),
 		pairs: l.ConnectorPairs, splices: l.Splices, strands: l.Strands, copper: l.CopperCables, insideA: l.InsideAM, insideB: l.InsideBM,
-		crossed: l.CrossedInsideM}
+		crossed: l.CrossedInsideM, endA: l.EndA, endB: l.EndB}
 }
 
 // clone gives the caller slices of its own, so a remembered choice cannot be changed.

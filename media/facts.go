@@ -55,6 +55,8 @@ const (
 	fInsideAM
 	fInsideBM
 	fInsideMaxM
+	fEndA
+	fEndB
 	fCordsM
 	fCopperChannelM
 	fMinLossDB
@@ -119,6 +121,8 @@ var facts = [nFacts]Fact{
 	fInsideAM:                 numFact("inside_a_m", "cable inside the building at the link's first end (riser, coil, loops, in-building pathways), in metres"),
 	fInsideBM:                 numFact("inside_b_m", "cable inside the building at the link's other end, in metres"),
 	fInsideMaxM:               numFact("inside_max_m", "the larger of inside_a_m and inside_b_m, in metres"),
+	fEndA:                     strFact("end_a", "the building at inside_a_m's end, by id, for reasons; \"the building at one end\" when not known"),
+	fEndB:                     strFact("end_b", "the building at inside_b_m's end, by id, for reasons; \"the building at the other end\" when not known"),
 	fCordsM:                   numFact("cords_m", "patch and equipment cords of a copper channel, both ends together, in metres"),
 	fCopperChannelM:           numFact("copper_channel_m", "channel_m plus cords_m: the copper channel end to end, in metres"),
 	fMinLossDB:                numFact("min_loss_db", "the least channel loss the application's receiver takes, in dB; 0 when any"),

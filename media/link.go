@@ -34,6 +34,9 @@ type Link struct {
 	// to the point of entrance. NFPA 70 Article 770 limits unlisted cable there to 15 m. When
 	// both are 0 each end is taken as half of RiserM.
 	InsideAM, InsideBM float64
+	// EndA and EndB name the buildings at InsideAM's and InsideBM's ends, for reasons (the
+	// facts end_a and end_b); "" when the caller does not say.
+	EndA, EndB string
 
 	// CrossedInsideM is the metres of the route on pathways drawn inside buildings it passes
 	// through (neither end's): a tray or tunnel there is not in InsideAM or InsideBM, and the

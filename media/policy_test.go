@@ -188,7 +188,7 @@ func TestEntrancePerEnd(t *testing.T) {
 	if c2.failed < 0 || e.rules.Rules[c2.failed].ID != "entrance-15m" {
 		t.Fatalf("25 m inside: not rejected by entrance-15m")
 	}
-	if got := e.rules.Rules[c2.failed].reason.render(c2.f[:]); !strings.Contains(got, "5 m inside at one end and 25 m at the other") {
+	if got := e.rules.Rules[c2.failed].reason.render(c2.f[:]); !strings.Contains(got, "5 m inside the building at one end and 25 m inside the building at the other end") {
 		t.Errorf("reason %q does not give both ends", got)
 	}
 }

@@ -41,6 +41,8 @@ const (
 	PriceFirestop      = "entrance-firestop" // each entrance a plan uses that is there already: firestopping the cables through its sleeve (optional)
 	PriceCrew          = "crew"              // crew labour, each: Name one of CrewTasks (optional section; a task it leaves out is NotPriced)
 	PriceSplicePoint   = "splice-point"      // a splice point built for a mid-span splice no structure within a reel's reach takes, each (optional)
+	PriceProtector     = "primary-protector" // a listed primary protector where a copper cable enters a building from outside, each cable end (optional)
+	PriceHoleWall      = "hole-wall"         // new duct entering an existing maintenance hole: wall penetration, duct terminators, seal, each (optional)
 
 	RatePull        = "pull-rate"        // metres pulled per hour: Name pathway type (duct, tunnel, aerial, buried, tray)
 	RateSplice      = "splice-rate"      // splices per hour
@@ -122,6 +124,10 @@ func (k PriceKey) Path() string {
 		return "crew_each." + k.Name
 	case PriceSplicePoint:
 		return "splice_point_each"
+	case PriceProtector:
+		return "primary_protector_each"
+	case PriceHoleWall:
+		return "maintenance_hole_entry_each"
 	case RatePull:
 		return "labour.pull_m_per_hour." + k.Name
 	case RateSplice:
@@ -223,11 +229,11 @@ func (p *PriceBook) Has(item string) bool {
 }
 
 // optionalItems are the price items a book may leave out whole (PriceBook.NotPriced).
-var optionalItems = []string{PriceEntrance, PriceFirestop, PricePatchCord, PriceSplicePoint}
+var optionalItems = []string{PriceEntrance, PriceFirestop, PricePatchCord, PriceSplicePoint, PriceProtector, PriceHoleWall}
 
 // NotPriced reports whether k is a price the book leaves out on purpose: its item is one a book
 // may leave out whole (building_entrance_each, entrance_firestop_each, patch_cords_each,
-// splice_point_each) and the book prices no key of that item; or it is a crew task (crew_each)
+// splice_point_each, primary_protector_each, maintenance_hole_entry_each) and the book prices no key of that item; or it is a crew task (crew_each)
 // of a book that prices crews but not that task (a book without crew_each prices labour by the
 // hour alone, and the plan asks it for no crew task: items.Crew). A plan still needs what such
 // a price buys: Check does not ask for it, and Bill lists its quantity on a line with no price
@@ -414,6 +420,8 @@ type priceFile struct {
 	EntranceEach        cents                               `yaml:"building_entrance_each"`
 	FirestopEach        cents                               `yaml:"entrance_firestop_each"`
 	SplicePointEach     cents                               `yaml:"splice_point_each"`
+	ProtectorEach       cents                               `yaml:"primary_protector_each"`
+	HoleEntryEach       cents                               `yaml:"maintenance_hole_entry_each"`
 	CrewEach            map[string]cents                    `yaml:"crew_each"`
 	Labour              labourYAML                          `yaml:"labour"`
 	Transceivers        map[string]cents                    `yaml:"transceivers"`
@@ -633,6 +641,8 @@ func ParsePriceBook(name string, data []byte) (*PriceBook, error) {
 	scalar("building_entrance_each", PriceEntrance, f.EntranceEach)
 	scalar("entrance_firestop_each", PriceFirestop, f.FirestopEach)
 	scalar("splice_point_each", PriceSplicePoint, f.SplicePointEach)
+	scalar("primary_protector_each", PriceProtector, f.ProtectorEach)
+	scalar("maintenance_hole_entry_each", PriceHoleWall, f.HoleEntryEach)
 	ports := func(key, item string, m map[int]cents) {
 		for _, n := range sortedInts(m) {
 			if n <= 0 {

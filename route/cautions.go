@@ -87,7 +87,7 @@ func cautionsOf(r *Result) []Caution {
 		if !l.Feasible {
 			continue
 		}
-		onAerial, onTunnel, onBuried, outdoor := false, false, false, l.LateralM > 0
+		onAerial, onTunnel, onBuried := false, false, false
 		for _, st := range l.Steps {
 			sp, ok := net.Span(st.SpanID)
 			if !ok {
@@ -106,9 +106,6 @@ func cautionsOf(r *Result) []Caution {
 					onBuried = true
 				}
 			}
-			if sp.Type != geo.TypeTray {
-				outdoor = true
-			}
 		}
 		for _, j := range r.Site.JunctionsOf(l.Steps) {
 			if jn, ok := net.Junction(j); ok && jn.Kind == geo.JunctionStructure && jn.StructureType == geo.StructureMaintenanceHole {
@@ -121,7 +118,7 @@ func cautionsOf(r *Result) []Caution {
 		if m := r.Engine.Catalog().Medium(l.Medium); m != nil {
 			if m.Fibre() {
 				fibre++
-			} else if outdoor {
+			} else if l.Outdoor {
 				copperOut++
 			}
 		}

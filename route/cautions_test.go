@@ -54,16 +54,7 @@ func TestCautionsFollowTheWork(t *testing.T) {
 		return strings.NewReplacer(`"id":"P","type":"duct",`, `"id":"P","type":"duct","method":"`+m+`",`)
 	}
 	pull := testsite.PullCampus(100, 2)
-	// The embedded rules and one that keeps fibre out: copper costs more than fibre here.
-	rules, err := os.ReadFile("../media/rules.yaml")
-	if err != nil {
-		t.Fatal(err)
-	}
-	copperOnly := filepath.Join(t.TempDir(), "rules.yaml")
-	rules = append(rules, "\n  - id: test-copper-only\n    kinds: [multimode, singlemode]\n    when: outdoor\n    effect: exclude\n    reason: \"this test plans copper\"\n    source: the test\n"...)
-	if err := os.WriteFile(copperOnly, rules, 0o644); err != nil {
-		t.Fatal(err)
-	}
+	copperOnly := copperOnlyRules(t)
 	skipC := []plan.LinkSpec{{From: "A", To: "C", Skip: true}} // B alone, over the existing duct D
 	for _, tc := range []struct {
 		name, campus string
@@ -120,6 +111,22 @@ func TestCautionsFollowTheWork(t *testing.T) {
 			}
 		})
 	}
+}
+
+// copperOnlyRules writes the embedded rules with one more that keeps fibre out of outdoor
+// routes (copper costs more than fibre on the test campuses) and returns the file's path.
+func copperOnlyRules(t *testing.T) string {
+	t.Helper()
+	rules, err := os.ReadFile("../media/rules.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	path := filepath.Join(t.TempDir(), "rules.yaml")
+	rules = append(rules, "\n  - id: test-copper-only\n    kinds: [multimode, singlemode]\n    when: outdoor\n    effect: exclude\n    reason: \"this test plans copper\"\n    source: the test\n"...)
+	if err := os.WriteFile(path, rules, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return path
 }
 
 // copperCampus is hub A and building B 30 m apart, joined by one existing duct, with risers

@@ -111,7 +111,7 @@ func routeDependent(pb *media.PriceBook, item string, price, rate media.PriceKey
 	case media.PriceStructure:
 		return item == "handhole where new pathway joins the network" || item == "handhole where a route turns between pathways" ||
 			item == "handhole along new construction" || item == "handhole where a lateral taps a duct"
-	case media.PriceEntrance, media.PriceFirestop:
+	case media.PriceEntrance, media.PriceFirestop, media.PriceHoleWall:
 		return true
 	case media.PriceCrew:
 		return price.Name != media.CrewEnclosureInstall // enclosures follow the media, not the routes

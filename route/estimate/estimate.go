@@ -205,6 +205,10 @@ type Construction struct {
 	// AddedDuctWalls is the building walls that ducts added beside full ones enter where the
 	// full ducts already do: each takes a penetration of its own (items.AddedDuctWalls).
 	AddedDuctWalls int
+	// HoleWalls is the walls of existing maintenance holes that new duct enters (opened duct
+	// spans and ducts added beside full ones): each takes an entry (items.HoleWalls,
+	// items.HoleEntries).
+	HoleWalls int
 	// NewJunctions, TapJunctions and TurnJunctions are the handholes the plan adds at
 	// junctions with no structure (routing.Routed.Handholes), each junction in one of them
 	// only, under the first of its reasons (routing.Handhole.Purpose), by junction ID in the
@@ -302,6 +306,7 @@ const (
 	keyBore      = "\x00bore"
 	keyAddedDuct = "\x00added duct"
 	keyDuctWall  = "\x00added duct's wall"
+	keyHoleWall  = "\x00new duct's maintenance hole wall"
 )
 
 // Sources of bill quantities (media.Quantity.From).
@@ -1088,6 +1093,7 @@ func (r *run) construction() {
 			}
 			c.AddedDuctM += float64(n) * sp.LengthM
 			r.newFrom[keyAddedDuct] = append(r.newFrom[keyAddedDuct], fromSpan(id))
+			c.holeWalls(s, &sp, r.newFrom)
 		}
 	}
 	for _, run := range r.Runs {
@@ -1133,12 +1139,22 @@ func (r *run) construction() {
 				c.AddedDuctWalls += n
 				r.newFrom[keyDuctWall] = append(r.newFrom[keyDuctWall], fromSpan(f.Span))
 			}
+			c.holeWalls(s, &sp, r.newFrom)
 		}
 	}
 	c.listPieces()
 	r.Estimate.Construction = c
 	if w := c.assumedWarning(); w != "" {
 		r.Estimate.Warnings = append(r.Estimate.Warnings, w)
+	}
+}
+
+// holeWalls counts the walls of existing maintenance holes the new duct along span sp enters
+// (items.HoleWalls), and the span among those the bill line is from.
+func (c *Construction) holeWalls(s *site.Site, sp *geo.Span, from map[string][]string) {
+	if n := items.HoleWalls(s, sp); n > 0 {
+		c.HoleWalls += n
+		from[keyHoleWall] = append(from[keyHoleWall], fromSpan(sp.ID))
 	}
 }
 
@@ -1188,6 +1204,17 @@ func PatchCordItem(cat *media.Catalog, l *routing.Leg) string {
 	}
 	return item
 }
+
+// ProtectorItem is the bill item of the primary protectors of a copper leg whose route leaves
+// the buildings (routing.Leg.Outdoor): one at each end of each 4-pair cable, where it enters
+// the building from outside. NFPA 70 800.90 (seen; Article 805 for communications circuits)
+// asks for a listed primary protector there wherever the circuit is exposed (to lightning, or
+// to accidental contact with power conductors: from memory), which the plan cannot tell from
+// the campus, so every such end is counted. Priced at primary_protector_each, or listed not
+// priced (media.PriceBook.NotPriced). The bonding conductor to the building's grounding
+// electrode system is part of the protector's installation here (NFPA 70 800.100, from
+// memory), not a line of its own.
+const ProtectorItem = "primary protector, copper cable end entering a building"
 
 // SplicePointToBuild is one splice point to build: its place (the first leg's join there;
 // on a span when Span is set, else off the spans along that leg's cable) and the legs joining
@@ -1281,6 +1308,9 @@ func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg) []
 		work("certify copper channels", media.UnitEach, float64(t.Terminated), media.PriceKey{Item: media.RateLossTest})
 	}
 	add(media.CategoryMaterial, PatchCordItem(eng.Catalog(), l), media.UnitEach, 2, media.PriceKey{Item: media.PricePatchCord, Medium: l.Medium})
+	if !fibre && l.Outdoor {
+		add(media.CategoryMaterial, ProtectorItem, media.UnitEach, ends, media.PriceKey{Item: media.PriceProtector})
+	}
 	if a := eng.Catalog().Application(l.Application); a != nil {
 		add(media.CategoryOptics, "transceiver "+a.Transceiver, media.UnitEach, 2, media.PriceKey{Item: media.PriceTransceiver, Name: a.Transceiver})
 	}
@@ -1418,6 +1448,9 @@ func (r *run) quantities() {
 	for _, q := range items.AddedDuctEntrances(p, con.AddedDuctWalls) {
 		e.Quantities = append(e.Quantities, one(q, r.newFrom[keyDuctWall]))
 	}
+	for _, q := range items.HoleEntries(con.HoleWalls) {
+		e.Quantities = append(e.Quantities, one(q, r.newFrom[keyHoleWall]))
+	}
 	// The entries, new or there already (items.Entrance), one line of each.
 	for _, built := range []bool{false, true} {
 		var at []string
@@ -1458,7 +1491,8 @@ func (r *run) quantities() {
 
 // bidBases counts, once, the quantities the price book's bid items may be priced per unit of:
 // new trench and bore metres (Construction.NewM); metres of aerial spans and of existing duct
-// spans (not opened by the plan) that feasible legs use, each span once; structure entries,
+// spans (not opened by the plan) that feasible legs use, each span once, the latter only where
+// a cable goes into an existing duct of it (intoExistingDuct); structure entries,
 // one per cable per structure its route passes; buildings terminating cable; cable ends (routing.CableTakeoff.CableEnds:
 // two per cable and those transitions and mid-span joins add); feasible legs.
 func (r *run) bidBases() media.BidBases {
@@ -1486,21 +1520,40 @@ func (r *run) bidBases() media.BidBases {
 		}
 	}
 	sort.Strings(spans) // in one order: a float sum depends on it
+	existing := r.intoExistingDuct()
 	for _, id := range spans {
 		sp, _ := r.Site.Net.Span(id)
 		switch {
 		case sp.Type == geo.TypeAerial:
 			b.AerialM += sp.LengthM
-		case sp.Type == geo.TypeDuct && !opened[id]:
+		case sp.Type == geo.TypeDuct && !opened[id] && existing(id):
 			b.ExistingDuctM += sp.LengthM
 		}
 	}
 	return b
 }
 
+// intoExistingDuct reports, of an existing duct span a leg uses, whether a cable is pulled
+// into one of its existing ducts: on a span of limited capacity, whether the packing
+// (Estimate.Fill, after ductFill) put a cable in a duct of it the plan does not add; on any
+// other, always. A span whose every cable went into ducts laid beside it (spare_ducts 0,
+// tester 8's finding 12) has no existing duct to prove and clean.
+func (r *run) intoExistingDuct() func(span string) bool {
+	limited, existing := map[string]bool{}, map[string]bool{}
+	for _, f := range r.Fill {
+		limited[f.Span] = limited[f.Span] || f.Limited
+	}
+	for _, f := range r.Estimate.Fill {
+		if !f.Added && !f.Unplaced {
+			existing[f.Span] = true
+		}
+	}
+	return func(span string) bool { return !limited[span] || existing[span] }
+}
+
 // legCost prices a leg's bill items one by one (media.PriceBook.Cents) into its breakdown:
-// cables, transitions and reel joins as cable; terminations, patch cords and transceivers
-// as optics; labour; innerduct as construction.
+// cables, transitions and reel joins as cable; terminations, patch cords, primary
+// protectors and transceivers as optics; labour; innerduct as construction.
 func legCost(p *media.PriceBook, qs []media.Quantity) routing.LegCost {
 	var c routing.LegCost
 	for _, q := range qs {
@@ -1508,7 +1561,8 @@ func legCost(p *media.PriceBook, qs []media.Quantity) routing.LegCost {
 		switch {
 		case q.Category == media.CategoryLabour:
 			c.LabourCents += x
-		case q.Category == media.CategoryOptics, q.Price.Item == media.PriceTermination, q.Price.Item == media.PricePatchCord:
+		case q.Category == media.CategoryOptics, q.Price.Item == media.PriceTermination, q.Price.Item == media.PricePatchCord,
+			q.Price.Item == media.PriceProtector:
 			c.OpticsCents += x
 		case q.Price.Item == media.PriceInnerduct, q.Category == media.CategoryConstruction:
 			c.ConstructionCents += x

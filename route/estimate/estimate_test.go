@@ -1023,3 +1023,89 @@ func TestPatchCordItem(t *testing.T) {
 		t.Error("the demo bills no duplex os2 patch cord")
 	}
 }
+
+// TestExistingDuctUsedOnlyWhereCablesGoIn (tester 8's finding 12): with no spare duct in D
+// (spare_ducts 0), every cable along it goes into ducts the plan lays beside it, so none of
+// D's existing ducts is entered and none needs proving and cleaning: the per_m_existing_duct_used
+// base counts only the spans where the packing put a cable into an existing duct (none here),
+// while with a spare duct it is all of D (TestBidBases). Common practice, no published source:
+// a duct is proved (mandrelled) and cleaned before a cable is pulled into it.
+func TestExistingDuctUsedOnlyWhereCablesGoIn(t *testing.T) {
+	t.Parallel()
+	r, err := testplan.PullSolve(t, 25, 0, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	onD, added := 0, 0
+	for _, f := range r.Estimate.Fill {
+		if f.PathwayID != "D" {
+			continue
+		}
+		onD++
+		if f.Added {
+			added++
+		}
+	}
+	if onD == 0 || added != onD {
+		t.Fatalf("campus changed: %d duct rows on D, %d of them added; want every cable on D in an added duct", onD, added)
+	}
+	if bs := r.Estimate.Bases; bs.ExistingDuctM != 0 {
+		t.Errorf("existing duct used %.2f m, want 0: no cable enters D's existing ducts", bs.ExistingDuctM)
+	}
+}
+
+// TestHoleEntries (tester 8's finding 13): new duct entering an existing maintenance hole
+// breaks into its wall (core drill or knockout, duct terminators, sealing; common practice, no
+// published source). On the pull campus with no spare duct in D and its handhole HH-1 drawn as
+// a maintenance hole MH-1, the plan lays ducts beside D on both spans that meet at MH-1: two
+// walls entered, one per trench. The demo book leaves maintenance_hole_entry_each out, so the
+// bill lists them not priced and the summary names the key; a book with it prices them. With
+// HH-1 a handhole (knockouts, no wall to break) there is none.
+func TestHoleEntries(t *testing.T) {
+	t.Parallel()
+	mh := strings.Replace(testsite.PullCampus(25, 0), `"id":"HH-1","type":"handhole"`, `"id":"MH-1","type":"maintenance-hole"`, 1)
+	solve := func(campus string, edit func(p *plan.Plan)) *route.Result {
+		r, err := testplan.PullSolveJSON(t, campus, edit)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return r
+	}
+	r := solve(mh, nil)
+	walls := 0 // by hand: the ends at MH-1 of the spans given added ducts
+	for _, f := range r.Fill {
+		if f.AddedDucts == 0 {
+			continue
+		}
+		sp, _ := r.Site.Net.Span(f.Span)
+		if sp.Status == geo.StatusProposed {
+			continue
+		}
+		for _, j := range []string{sp.From, sp.To} {
+			if j == "MH-1" {
+				walls++
+			}
+		}
+	}
+	if walls != 2 {
+		t.Fatalf("campus changed: %d trenches beside D end at MH-1, want 2", walls)
+	}
+	line, ok := testplan.BOMLine(r.Estimate.BOM, items.HoleEntryItem)
+	if !ok || line.Quantity != float64(walls) || !line.NotPriced || line.ExtendedCents != 0 || r.Estimate.Construction.HoleWalls != walls {
+		t.Errorf("without a price: line %+v (found %v), want %d not priced", line, ok, walls)
+	}
+	if got := output.Summarize(r).NotPriced; !slices.Contains(got, "maintenance_hole_entry_each") {
+		t.Errorf("without a price: summary not_priced %q", got)
+	}
+
+	path := testplan.DemoBookWith(t, "maintenance_hole_entry_each: 950.00\n")
+	r2 := solve(mh, func(p *plan.Plan) { p.Prices = path })
+	line, ok = testplan.BOMLine(r2.Estimate.BOM, items.HoleEntryItem)
+	if !ok || line.NotPriced || line.Quantity != float64(walls) || line.ExtendedCents != int64(walls)*95000 {
+		t.Errorf("priced: line %+v (found %v), want %d at 950.00", line, ok, walls)
+	}
+
+	if _, ok := testplan.BOMLine(solve(testsite.PullCampus(25, 0), nil).Estimate.BOM, items.HoleEntryItem); ok {
+		t.Errorf("HH-1 a handhole: the bill enters a maintenance hole's wall")
+	}
+}

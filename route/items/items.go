@@ -411,6 +411,39 @@ func AddedDuctEntrances(p *media.PriceBook, n int) []media.Quantity {
 		Unit: media.UnitEach, Amount: float64(n), Price: media.PriceKey{Item: media.PriceEntrance}}}
 }
 
+// HoleWalls counts the walls of existing maintenance holes that new duct along span sp enters:
+// the span's ends at a maintenance hole of the campus (every structure the campus draws is
+// there already), for a proposed span opened (its ducts) or a trench beside a full existing
+// one (the ducts it adds). A handhole or pull box is taken to have knockouts or an open bottom
+// for a new duct (common practice, no published source), so only a maintenance hole counts.
+func HoleWalls(s *site.Site, sp *geo.Span) int {
+	n := 0
+	for _, j := range []string{sp.From, sp.To} {
+		if jn, ok := s.Net.Junction(j); ok && jn.Kind == geo.JunctionStructure && jn.StructureType == geo.StructureMaintenanceHole {
+			n++
+		}
+	}
+	return n
+}
+
+// HoleEntryItem is the bill item of new duct entering an existing maintenance hole.
+const HoleEntryItem = "maintenance hole entry for new duct: wall penetration, duct terminators, seal"
+
+// HoleEntries is what new duct takes where it enters existing maintenance holes through n
+// walls (HoleWalls): breaking into the wall (core drill, or a knockout where the hole has one),
+// the duct terminators (end bells) and sealing, one for the ducts a trench lays, however many,
+// as the trench is one (common practice, no published source; tester 8's finding 13), at the
+// optional maintenance_hole_entry_each, or not priced without it (media.PriceBook.NotPriced).
+// The optimizer pays it with the opening or the trench beside a full duct (package routing),
+// the bill from the span (package estimate).
+func HoleEntries(n int) []media.Quantity {
+	if n <= 0 {
+		return nil
+	}
+	return []media.Quantity{{Category: media.CategoryConstruction, Item: HoleEntryItem,
+		Unit: media.UnitEach, Amount: float64(n), Price: media.PriceKey{Item: media.PriceHoleWall}}}
+}
+
 // Times is qs with every amount multiplied by n: the items of one cable for n cables, or of
 // one unit of a base for n units.
 func Times(n float64, qs ...media.Quantity) []media.Quantity {

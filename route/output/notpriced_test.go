@@ -292,15 +292,7 @@ func TestSplicePointsNotPriced(t *testing.T) {
 		t.Errorf("summary not_priced %q, note %q: want splice_point_each", sum.NotPriced, sum.NotPricedNote())
 	}
 
-	data, err := os.ReadFile(filepath.Join("..", "..", "media", "prices-demo.yaml"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	path := filepath.Join(t.TempDir(), "prices.yaml")
-	if err := os.WriteFile(path, append(data, "splice_point_each: 2400.00\n"...), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	q.Prices = path
+	q.Prices = testplan.DemoBookWith(t, "splice_point_each: 2400.00\n")
 	r2 := testplan.SolvePlan(t, s, &q)
 	line, ok = testplan.BOMLine(r2.Estimate.BOM, estimate.SplicePointItem)
 	if !ok || line.NotPriced || line.ExtendedCents != int64(len(places))*240000 {

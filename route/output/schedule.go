@@ -183,6 +183,17 @@ func JacketText(r *route.Result, l *routing.Leg) string {
 	return out
 }
 
+// StrandsText is what a table in words gives as leg l's strands: the count for fibre,
+// "4 pairs" for a feasible copper leg, whose count is its pairs (routing.Leg.StrandsCable).
+// links.csv, routes.geojson and plan.gpkg give the number alone, documented as pairs for copper.
+func StrandsText(cat *media.Catalog, l *routing.Leg) string {
+	n := strconv.Itoa(l.StrandsCable)
+	if m := cat.Medium(l.Medium); l.Feasible && m != nil && !m.Fibre() {
+		return n + " pairs"
+	}
+	return n
+}
+
 // CableLabels are the labels of the cables of leg i of r, one per cable, written on the cable
 // at both ends: the link's from and to buildings and a cable number, "ADM/LIB-1", after the
 // form of ANSI/TIA-606's campus backbone cable identifier [b1-f1s1]/[b2-f2s2]-n without the

@@ -777,7 +777,7 @@ func legRowOf(r *route.Result, l *routing.Leg, opt Options, med map[string]mediu
 	pathways, crosses, turns := output.LegLists(r.Site.Net, l) // from→to, as every output lists them
 	row := legRow{Link: l.Link.ID, Leg: l.Name, From: l.Link.From, To: l.Link.To,
 		FromName: names[l.Link.From], ToName: names[l.Link.To], Rate: l.Link.Rate, Feasible: l.Feasible,
-		Application: l.Application, Construction: l.ConstructionText(), Strands: strconv.Itoa(l.StrandsCable),
+		Application: l.Application, Construction: l.ConstructionText(), Strands: output.StrandsText(r.Engine.Catalog(), l),
 		Route: opt.length(l.RouteM), Lat: opt.length(l.LateralM), Riser: opt.length(l.RiserM),
 		Cost: money(l.Cost.TotalCents()), EntranceFrom: l.EntranceFrom, EntranceTo: l.EntranceTo,
 		Crosses: crosses, Turns: turns}

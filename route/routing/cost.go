@@ -41,6 +41,10 @@ func CopperCables(required int, growth float64) int {
 	return max(1, (n+1)/2)
 }
 
+// PairsPerCable is the pairs of a copper backbone cable, the only copper cable the catalog
+// lists: 4-pair (ANSI/TIA-568.2).
+const PairsPerCable = 4
+
 // ConnectorPairs is the number of mated connector pairs in a backbone channel: one patch
 // panel at each end (ANSI/TIA-568.3-D channel model).
 const ConnectorPairs = 2
@@ -307,6 +311,9 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 		if sp.Status == geo.StatusProposed {
 			open := items.Opening(d, sp, items.MethodOf(m.prices, d, sp))
 			e.Proposed, e.FixedCents = true, m.cents(open...)+m.bidPer(media.BidBases{NewBuriedM: 1}, sp.LengthM)
+			if sp.Type == geo.TypeDuct {
+				e.FixedCents += m.cents(items.HoleEntries(items.HoleWalls(s, sp))...) // its ducts into existing maintenance holes
+			}
 			if n := len(runHH[sp.ID]); n > 0 {
 				e.FixedCents += m.cents(items.RunHandholes(n))
 			}
@@ -328,7 +335,9 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 				e.AddTrenchDucts = items.NewDucts(d) // the trench is laid with the design's ducts at least (optimize.Edge.LaidDucts)
 				// The ducts enter a building through a wall the full ones already enter: a
 				// penetration of their own, paid with the trench.
-				e.AddTrenchCents = m.cents(items.AddedDuctEntrances(m.prices, items.AddedDuctWalls(builtAt, sp))...)
+				// Likewise where they enter an existing maintenance hole.
+				e.AddTrenchCents = m.cents(items.AddedDuctEntrances(m.prices, items.AddedDuctWalls(builtAt, sp))...) +
+					m.cents(items.HoleEntries(items.HoleWalls(s, sp))...)
 			}
 		}
 		p.Edges[i] = e
@@ -617,7 +626,7 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link, sh *shortest) (op
 	insideFrom := s.RiserM(l.From) + d.SlackM + d.SlackLoopEntranceM
 	facts := media.Link{ID: l.ID, RiserM: riser, SlackM: slack, RateGbps: rate, FutureRateGbps: future,
 		MaxEMI: geo.EMINone, ConnectorPairs: ConnectorPairs, Strands: strands, CopperCables: CopperCables(l.Strands, l.Growth),
-		InsideAM: insideTo, InsideBM: insideFrom}
+		InsideAM: insideTo, InsideBM: insideFrom, EndA: l.To, EndB: l.From}
 	info := demandInfo{facts: facts, rate: rate, strands: strands}
 	dm := optimize.Demand{ID: l.ID, Source: int(srcN), Target: int(dstN), Diverse: l.Diverse}
 	if !okS || !okD {

@@ -41,6 +41,9 @@ type Leg struct {
 	RouteM   float64    // along pathways, laterals at both ends included, in metres
 	LateralM float64    // the laterals alone, in metres
 	RiserM   float64    // risers at both ends, in metres
+	// Outdoor is whether the route leaves the buildings (a span other than a tray, or a
+	// lateral; media.Link.Outdoor): its cable then enters both end buildings from outside.
+	Outdoor  bool
 	Feasible bool
 	Reason   string // why the leg is infeasible, or notes
 	// ReasonCode is the short stable code of why the leg is infeasible, or of how its medium
@@ -61,11 +64,14 @@ type Leg struct {
 	Turns []string
 
 	// The medium decision, filled by the media rule engine.
-	Medium        string       // catalog medium id, e.g. "os2"; "" when infeasible
-	Application   string       // IEEE 802.3 PHY, e.g. "10GBASE-LR"
-	Construction  string       // cable construction id
-	Inside        string       // with an entrance transition: the listed construction spliced on at both entrances; "" without
-	StrandsCable  int          // strands (or copper pairs) of the cable installed, after growth and rounding
+	Medium       string // catalog medium id, e.g. "os2"; "" when infeasible
+	Application  string // IEEE 802.3 PHY, e.g. "10GBASE-LR"
+	Construction string // cable construction id
+	Inside       string // with an entrance transition: the listed construction spliced on at both entrances; "" without
+	// StrandsCable is the strands of the cable installed, after growth and rounding to a
+	// cable size; on a feasible copper leg its pairs instead, PairsPerCable per 4-pair cable
+	// (an infeasible leg keeps the strands asked, rounded as fibre).
+	StrandsCable  int
 	Losses        []media.Loss // per wavelength, fibre only
 	WorstMarginDB float64      // smallest loss margin over the operating wavelengths; 0 for copper
 	Choice        string       // the rule engine's reason for the medium
@@ -97,7 +103,7 @@ type LegCost struct {
 	// the optimizer prices it (bill construction: trench, added duct, handholes, entrances),
 	// with the bid items per metre of new buried work the optimizer prices with the trench.
 	ConstructionCents int64
-	OpticsCents       int64 // terminations and patch cords (bill material), transceivers (bill optics)
+	OpticsCents       int64 // terminations, patch cords and primary protectors (bill material), transceivers (bill optics)
 }
 
 // TotalCents is the sum of the breakdown.
@@ -265,7 +271,7 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 		facts.CrossedInsideM += interiorM(s, b, ol)
 	}
 	facts.MaxEMI = emi
-	facts.Outdoor = outdoor
+	facts.Outdoor, leg.Outdoor = outdoor, outdoor
 	facts.Plenum = plenum
 	for t := range types {
 		facts.PathwayTypes = append(facts.PathwayTypes, t)
@@ -294,6 +300,11 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 	}
 	leg.Feasible = true
 	leg.Cable.Fit(cm.eng.Catalog(), ch, facts.InsideAM, facts.InsideBM, cm.design.WastePct)
+	if m := cm.eng.Catalog().Medium(ch.Medium); m != nil && !m.Fibre() {
+		// Copper counts pairs, four to each 4-pair cable, not the fibre cable size the
+		// plan's strands would round up to (ANSI/TIA-568.2: a 4-pair cable serves one port).
+		leg.StrandsCable = PairsPerCable * leg.Cable.Cables
+	}
 	if joins := leg.Cable.Joins; ch.Inside != "" {
 		// With an entrance transition the reels are the outside cable's (cutOutside): fewer
 		// joins there are fewer splices in the loss budget, which the engine checks again; if

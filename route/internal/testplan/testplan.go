@@ -7,6 +7,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"runtime"
 	"slices"
 	"spanwright/geo"
 	"spanwright/media"
@@ -218,4 +219,21 @@ func DropPriceKeys(data []byte, keys ...string) []byte {
 		keep = append(keep, line)
 	}
 	return []byte(strings.Join(keep, "\n"))
+}
+
+// DemoBookWith writes the demo price book (media/prices-demo.yaml) with the top-level lines
+// extra added at its end into a temporary folder of tb, and returns the file's path: the demo
+// with an optional price it leaves out.
+func DemoBookWith(tb testing.TB, extra string) string {
+	tb.Helper()
+	_, here, _, _ := runtime.Caller(0)
+	data, err := os.ReadFile(filepath.Join(filepath.Dir(here), "..", "..", "..", "media", "prices-demo.yaml"))
+	if err != nil {
+		tb.Fatal(err)
+	}
+	path := filepath.Join(tb.TempDir(), "prices.yaml")
+	if err := os.WriteFile(path, append(data, extra...), 0o644); err != nil {
+		tb.Fatal(err)
+	}
+	return path
 }
