@@ -833,9 +833,12 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 				hi = p
 			}
 		}
+		// The pull nearest its cable's rating, not the largest tension: a share of the rating,
+		// said as such (tester 8 finding 17), with the tension and rating it is made of.
 		tn, rated := u.N(hi.TensionN), u.N(hi.RatedN)
-		fmt.Fprintf(w, "pulling: %s, %d over rating; highest %.1f %s of %.1f %s rated (%s %s, from %s to %s)\n",
-			Counted(s.PullSections, "pull section", "pull sections"), s.PullsOverRating, tn, u.Force, rated, u.Force, t(r.Legs[hi.Leg].Link.ID), t(r.Legs[hi.Leg].Name), t(PointText(opt, hi.From)), t(PointText(opt, hi.To)))
+		fmt.Fprintf(w, "pulling: %s, %d over rating; highest share of rating %.0f %%: %.1f %s of %.1f %s rated (%s %s, from %s to %s)\n",
+			Counted(s.PullSections, "pull section", "pull sections"), s.PullsOverRating, 100*hi.TensionN/hi.RatedN, tn, u.Force, rated, u.Force,
+			t(r.Legs[hi.Leg].Link.ID), t(r.Legs[hi.Leg].Name), t(PointText(opt, hi.From)), t(PointText(opt, hi.To)))
 	}
 	if line := fillLine(e.Fill); line != "" {
 		fmt.Fprintln(w, line)
