@@ -66,9 +66,15 @@ type PullSection struct {
 	Seq      int       // 1-based within the leg
 	From, To PullPoint // the pull points at its ends
 	Spans    []string  // span IDs in the section, in travel order
-	StartM   float64   // where the section starts along the leg's spans, from its served end, in metres
-	LengthM  float64
-	BendDeg  float64 // sum of the section's bends, in degrees
+	// StartM is where the section starts along the leg's route from its served building, in
+	// metres: a leg's sections start at 0 and follow on up to its route (routing.Leg.RouteM),
+	// a counted lateral at the served end first, then the spans from SpansStartM.
+	StartM float64
+	// SpansStartM is where the leg's spans start on StartM's scale: the counted lateral at its
+	// served building (0 without one).
+	SpansStartM float64
+	LengthM     float64
+	BendDeg     float64 // sum of the section's bends, in degrees
 	// BendRadiusM is the conduit bend radius the capstan's sidewall pressure uses (TIA-569
 	// multiples of the duct ID), the smallest in the section; 0 without bends.
 	BendRadiusM  float64
@@ -87,7 +93,7 @@ type PullSection struct {
 	// where it ends in a structure or taps a duct (site.Site.Tap), a pull of its own with no
 	// span; or, where it carries a duct on from the duct's dangling end, as part of the pull
 	// along that duct with the turn between them. "" for a section along spans alone. A
-	// lateral at the served end lies before the first span (StartM from minus its length).
+	// lateral at the served end lies before the first span (StartM below SpansStartM).
 	Lateral string
 }
 
@@ -99,7 +105,7 @@ func (p PullSection) SpansText() string {
 		return strings.Join(p.Spans, " ")
 	case len(p.Spans) == 0:
 		return "lateral of " + p.Lateral
-	case p.StartM < 0: // at the served end, before the spans
+	case p.StartM < p.SpansStartM-0.01: // at the served end, before the spans
 		return "lateral of " + p.Lateral + " " + strings.Join(p.Spans, " ")
 	}
 	return strings.Join(p.Spans, " ") + " lateral of " + p.Lateral
@@ -458,6 +464,14 @@ func (r *run) pullPlan(i int) legPulls {
 		head, tail = &spans[0], &spans[len(spans)-1]
 	}
 	latTo, carryTo := r.lateralEnd(leg.Link.To, leg.EntranceTo, head)
+	// The sections are placed from the served building, whose counted lateral (pulled on its
+	// own, with the first duct, or not at all) comes before the spans, as in the leg's route.
+	lead := 0.0
+	for _, en := range s.Net.EntrancesOf(leg.Link.To) {
+		if en.ID == leg.EntranceTo {
+			lead = en.LateralM
+		}
+	}
 	latFrom, carryFrom := r.lateralEnd(leg.Link.From, leg.EntranceFrom, tail)
 	endM := cum[len(cum)-1]
 	name := func(x float64) (at PullPoint, key string) {
@@ -516,7 +530,7 @@ func (r *run) pullPlan(i int) legPulls {
 			ps := PullSection{Leg: i, Seq: seq, LengthM: sec.LengthM, TensionN: sec.MaxTensionN, RatedN: spec.MaxTensionN,
 				SWBPNPerM: sec.MaxSWBPNPerM, AddedFrom: sec.StartAdded, AddedTo: sec.EndAdded, WithinRating: sec.WithinRating,
 				Over: sec.Over, Lateral: en.ID}
-			ps.StartM = start + sec.StartM
+			ps.StartM, ps.SpansStartM = start+sec.StartM+lead, lead
 			var fromKey, toKey string
 			if served { // travel order: from the building to the junction
 				ps.From, fromKey = at(sec.StartM)
@@ -628,7 +642,7 @@ func (r *run) pullPlan(i int) legPulls {
 			seq++
 			start := cum[first] + sec.StartM - pre
 			end := start + sec.LengthM
-			ps := PullSection{Leg: i, Seq: seq, StartM: start, LengthM: sec.LengthM, BendDeg: sec.BendDeg,
+			ps := PullSection{Leg: i, Seq: seq, StartM: start + lead, SpansStartM: lead, LengthM: sec.LengthM, BendDeg: sec.BendDeg,
 				TensionN: sec.MaxTensionN, RatedN: spec.MaxTensionN, SWBPNPerM: sec.MaxSWBPNPerM,
 				AddedFrom: sec.StartAdded, AddedTo: sec.EndAdded, WithinRating: sec.WithinRating, Over: sec.Over}
 			var fromKey, toKey string

@@ -440,8 +440,8 @@ type pullPoint struct {
 // addedPullPoints places the intermediate pull points of the estimate's pulls (the ends of
 // sections marked added), each once, as the bill counts them (estimate.Estimate.
 // AddedPullPoints: by junction, or by span and whole metre), sorted by junction, then span and
-// offset. A pull section's StartM is along the leg's spans from its served end (the router's
-// order, routing.Leg.Steps).
+// offset. A pull section's StartM is along the leg's route from its served building, its
+// spans (the router's order, routing.Leg.Steps) from SpansStartM.
 func addedPullPoints(r *route.Result) []pullPoint {
 	if r.Estimate == nil {
 		return nil
@@ -488,16 +488,17 @@ func addedPullPoints(r *route.Result) []pullPoint {
 			if !end.added || len(spans) == 0 {
 				continue
 			}
+			x := end.x - p.SpansStartM // along the spans, a lateral at the served end below 0
 			var k key
 			pp := pullPoint{}
-			if end.x < -0.01 || end.x > cum[len(cum)-1]+0.01 {
+			if x < -0.01 || x > cum[len(cum)-1]+0.01 {
 				// On a counted lateral pulled with the leg (estimate.PullSection.Lateral): the
 				// estimate named it by the lateral and metres from its building.
 				pt, b := p.From, l.Link.To
 				if end.x != p.StartM {
 					pt = p.To
 				}
-				if end.x > 0 {
+				if x > 0 {
 					b = l.Link.From
 				}
 				for _, en := range r.Site.Net.EntrancesOf(b) {
@@ -506,12 +507,12 @@ func addedPullPoints(r *route.Result) []pullPoint {
 					}
 				}
 				k, pp.span, pp.offM = key{span: pt.Span, m: math.Round(pt.AtM)}, pt.Span, pt.AtM
-			} else if j := slices.IndexFunc(cum, func(c float64) bool { return math.Abs(end.x-c) < 0.01 }); j > 0 && j < len(cum)-1 {
+			} else if j := slices.IndexFunc(cum, func(c float64) bool { return math.Abs(x-c) < 0.01 }); j > 0 && j < len(cum)-1 {
 				k, pp.junction = key{junction: juncs[j]}, juncs[j]
 			} else if j < 0 {
-				q, _ := slices.BinarySearch(cum, end.x)
+				q, _ := slices.BinarySearch(cum, x)
 				q = min(max(q-1, 0), len(spans)-1)
-				off := end.x - cum[q]
+				off := x - cum[q]
 				if l.Steps[q].Reverse {
 					off = spans[q].lengthM - off
 				}
