@@ -118,15 +118,19 @@ type PullPoint struct {
 	ID   string  // structure, junction or building ID; "" for a handhole the plan adds
 	Span string  // the span an added handhole stands on; "" for an ID
 	AtM  float64 // where on Span, in metres from its from end
+	// End names Span's from end, which AtM counts from (geo.Network.EndName; on a counted
+	// lateral, its building).
+	End string
 }
 
-// Text is the pull point as a person reads it: its ID, or "new handhole on SPAN at LENGTH"
-// with the offset written by length (the output's units; a number and its unit).
+// Text is the pull point as a person reads it: its ID, or "new handhole on SPAN, LENGTH from
+// the END end" (routing.AlongText) with the offset written by length (the output's units; a
+// number and its unit).
 func (p PullPoint) Text(length func(m float64) string) string {
 	if p.Span == "" {
 		return p.ID
 	}
-	return "new handhole on " + p.Span + " at " + length(p.AtM)
+	return "new handhole " + routing.AlongText(p.Span, p.End, p.AtM, length)
 }
 
 // MetresText writes a length as the estimate's warnings do (summary.json keeps them
@@ -478,12 +482,12 @@ func (r *run) pullPlan(i int) legPulls {
 		switch { // in a carried lateral: its building, or a handhole the plan adds along it
 		case carryTo.ID != "" && x < -0.01:
 			if off := x + carryTo.LateralM; off > 0.01 {
-				return PullPoint{Span: "lateral of " + carryTo.ID, AtM: off}, fmt.Sprintf("L:%s@%.0f", carryTo.ID, off)
+				return PullPoint{Span: "lateral of " + carryTo.ID, AtM: off, End: leg.Link.To}, fmt.Sprintf("L:%s@%.0f", carryTo.ID, off)
 			}
 			return PullPoint{ID: leg.Link.To}, "B:" + leg.Link.To
 		case carryFrom.ID != "" && x > endM+0.01:
 			if off := endM + carryFrom.LateralM - x; off > 0.01 {
-				return PullPoint{Span: "lateral of " + carryFrom.ID, AtM: off}, fmt.Sprintf("L:%s@%.0f", carryFrom.ID, off)
+				return PullPoint{Span: "lateral of " + carryFrom.ID, AtM: off, End: leg.Link.From}, fmt.Sprintf("L:%s@%.0f", carryFrom.ID, off)
 			}
 			return PullPoint{ID: leg.Link.From}, "B:" + leg.Link.From
 		}
@@ -504,7 +508,7 @@ func (r *run) pullPlan(i int) legPulls {
 		if leg.Steps[j].Reverse {
 			off = spans[j].LengthM - off
 		}
-		return PullPoint{Span: spans[j].ID, AtM: off}, fmt.Sprintf("S:%s@%.0f", spans[j].ID, off)
+		return PullPoint{Span: spans[j].ID, AtM: off, End: s.Net.EndName(spans[j].From)}, fmt.Sprintf("S:%s@%.0f", spans[j].ID, off)
 	}
 	seq := 0
 	// lateral pulls the counted lateral of entrance en, from building b to junction at, as
@@ -523,7 +527,7 @@ func (r *run) pullPlan(i int) legPulls {
 			case x > en.LateralM-0.01:
 				return PullPoint{ID: en.Junction}, "J:" + en.Junction
 			}
-			return PullPoint{Span: "lateral of " + en.ID, AtM: x}, fmt.Sprintf("L:%s@%.0f", en.ID, x)
+			return PullPoint{Span: "lateral of " + en.ID, AtM: x, End: b}, fmt.Sprintf("L:%s@%.0f", en.ID, x)
 		}
 		for _, sec := range plan.Sections {
 			seq++

@@ -432,9 +432,10 @@ type pullPoint struct {
 	links          []string
 	legs           []string // the legs pulled there, "link/leg" (routing.Leg.Label), in leg order
 	// lateral: the point is on a counted lateral (drawn as lat), offM metres from its
-	// building; span is then "lateral of" and the entrance.
+	// building, end; span is then "lateral of" and the entrance.
 	lateral bool
 	lat     geo.Span
+	end     string
 }
 
 // addedPullPoints places the intermediate pull points of the estimate's pulls (the ends of
@@ -506,7 +507,7 @@ func addedPullPoints(r *route.Result) []pullPoint {
 						pp.lateral, pp.lat = true, geo.Span{Line: en.Lateral, LengthM: en.LateralM}
 					}
 				}
-				k, pp.span, pp.offM = key{span: pt.Span, m: math.Round(pt.AtM)}, pt.Span, pt.AtM
+				k, pp.span, pp.offM, pp.end = key{span: pt.Span, m: math.Round(pt.AtM)}, pt.Span, pt.AtM, pt.End
 			} else if j := slices.IndexFunc(cum, func(c float64) bool { return math.Abs(x-c) < 0.01 }); j > 0 && j < len(cum)-1 {
 				k, pp.junction = key{junction: juncs[j]}, juncs[j]
 			} else if j < 0 {

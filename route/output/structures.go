@@ -36,9 +36,10 @@ type Structure struct {
 	ID   string // the structure's or junction's id; "" for a handhole on a span or lateral
 	// Span and AtM place a handhole that stands on a span (or a counted lateral, named
 	// "lateral of" and its entrance) and not at a junction: AtM metres from the span's from
-	// end (a lateral's from its building).
+	// end (a lateral's from its building), which End names (geo.Network.EndName).
 	Span   string
 	AtM    float64
+	End    string
 	Status string // StructureExisting or StructureToBuild
 	// Type is the structure's type (geo.Structure.Type: maintenance-hole, handhole,
 	// pull-box); a structure to build is a handhole.
@@ -51,10 +52,10 @@ type Structure struct {
 	Legs    []string  // the feasible legs through it, "link/leg", in leg order
 }
 
-// Place is where a structure is, for a person: its id, or "new handhole on SPAN at LENGTH"
-// (estimate.PullPoint.Text) with the offset written by length.
+// Place is where a structure is, for a person: its id, or "new handhole on SPAN, LENGTH from
+// the END end" (estimate.PullPoint.Text) with the offset written by length.
 func (s Structure) Place(length func(m float64) string) string {
-	return estimate.PullPoint{ID: s.ID, Span: s.Span, AtM: s.AtM}.Text(length)
+	return estimate.PullPoint{ID: s.ID, Span: s.Span, AtM: s.AtM, End: s.End}.Text(length)
 }
 
 // StructuresOf lists the structures of the plan: first the handholes it adds (at junctions,
@@ -170,7 +171,7 @@ func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 			if !ok {
 				return nil, fmt.Errorf("handhole along new construction on %s: not a span of the network", h.Span)
 			}
-			add(Structure{Span: h.Span, AtM: h.AtM, Status: StructureToBuild, Type: geo.StructureHandhole, Purpose: PurposeRun,
+			add(Structure{Span: h.Span, AtM: h.AtM, End: net.EndName(sp.From), Status: StructureToBuild, Type: geo.StructureHandhole, Purpose: PurposeRun,
 				Point: sp.PointAt(h.AtM), Legs: legsAt(place{span: h.Span, atM: h.AtM})})
 		}
 	}
@@ -184,13 +185,13 @@ func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 			}
 			s.ID, s.Point, s.Legs = p.junction, j.Point, atJunction[p.junction]
 		case p.lateral:
-			s.Span, s.AtM, s.Point, s.Legs = p.span, p.offM, p.lat.PointAt(p.offM), p.legs
+			s.Span, s.AtM, s.End, s.Point, s.Legs = p.span, p.offM, p.end, p.lat.PointAt(p.offM), p.legs
 		default:
 			sp, ok := net.Span(p.span)
 			if !ok {
 				return nil, fmt.Errorf("pull point on %s: not a span of the network", p.span)
 			}
-			s.Span, s.AtM, s.Point, s.Legs = p.span, p.offM, sp.PointAt(p.offM), onSpan[p.span]
+			s.Span, s.AtM, s.End, s.Point, s.Legs = p.span, p.offM, net.EndName(sp.From), sp.PointAt(p.offM), onSpan[p.span]
 		}
 		add(s)
 	}
@@ -199,7 +200,7 @@ func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 		for _, i := range sp.Legs {
 			legs = append(legs, r.Legs[i].Label())
 		}
-		add(Structure{Span: sp.At.Span, AtM: sp.At.AtM, Status: StructureToBuild, Type: sp.typ, Purpose: PurposeSplice,
+		add(Structure{Span: sp.At.Span, AtM: sp.At.AtM, End: sp.At.End, Status: StructureToBuild, Type: sp.typ, Purpose: PurposeSplice,
 			Point: sp.point, Legs: legs})
 	}
 	// Existing structures passed, with what is done there.
