@@ -20,6 +20,7 @@ import (
 	"spanwright/route/estimate"
 	"spanwright/route/internal/testplan"
 	"spanwright/route/internal/testsite"
+	"spanwright/route/plan"
 )
 
 // TestNotPricedListed plans the demo with a price book that leaves out the optional prices
@@ -374,5 +375,40 @@ func TestSplicePointsInStructuresTable(t *testing.T) {
 	line, ok := testplan.BOMLine(r.Estimate.BOM, estimate.SplicePointItem)
 	if !ok || line.Quantity != float64(len(r.Estimate.SplicePoints)) || len(r.Estimate.SplicePoints) < len(want) {
 		t.Errorf("bill's splice points %v, estimate's list %d, on spans %d", line.Quantity, len(r.Estimate.SplicePoints), len(want))
+	}
+}
+
+// TestAerialSplicePointIsAClosure: hub A and building C 1,200 m apart on one existing aerial
+// span, with reels of 500 m: no structure on the pole line takes the joins, so each is a
+// splice point to build, and on an aerial span that is a splice closure on the strand, not a
+// handhole (tester 8 finding 16: "new handhole on A-1 at 136.3 m", typed splice closure): its
+// type is the closure and its place names no handhole. Common practice, no published source
+// (aerial cable is joined in a closure lashed to the strand).
+func TestAerialSplicePointIsAClosure(t *testing.T) {
+	t.Parallel()
+	line := fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":"AER","type":"aerial"},"geometry":{"type":"LineString","coordinates":[[%.7f,%.7f],[%.7f,%.7f]]}}`,
+		testsite.X(10), testsite.Y(0), testsite.X(1200), testsite.Y(0))
+	campus := `{"type":"FeatureCollection","features":[` + strings.Join([]string{testsite.Box("A", "mc", 0, 0), testsite.Box("C", "", 1210, 0), line}, ",") + `]}`
+	r, err := testplan.PullSolveJSON(t, campus, func(p *plan.Plan) { p.Design.ReelM = 500 })
+	if err != nil {
+		t.Fatal(err)
+	}
+	rows, err := StructuresOf(r)
+	if err != nil {
+		t.Fatal(err)
+	}
+	metres := func(m float64) string { return strconv.FormatFloat(m, 'f', 1, 64) + " m" }
+	n := 0
+	for _, st := range rows {
+		if st.Purpose != PurposeSplice {
+			continue
+		}
+		n++
+		if place := st.Place(metres); st.Type != TypeSpliceClosure || strings.Contains(place, "handhole") || !strings.HasPrefix(place, "new splice closure on AER, ") {
+			t.Errorf("splice point on the aerial span: type %q, place %q; want a splice closure on the strand, no handhole", st.Type, place)
+		}
+	}
+	if n == 0 {
+		t.Fatalf("no splice point to build on the aerial span: %+v", rows)
 	}
 }

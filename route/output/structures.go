@@ -53,8 +53,13 @@ type Structure struct {
 }
 
 // Place is where a structure is, for a person: its id, or "new handhole on SPAN, LENGTH from
-// the END end" (estimate.PullPoint.Text) with the offset written by length.
+// the END end" (estimate.PullPoint.Text) with the offset written by length; a splice point on
+// an aerial span is no handhole but a closure on the strand, "new splice closure on SPAN, …"
+// (tester 8 finding 16).
 func (s Structure) Place(length func(m float64) string) string {
+	if s.Type == TypeSpliceClosure && s.ID == "" {
+		return "new splice closure " + routing.AlongText(s.Span, s.End, s.AtM, length) + " (on the strand)"
+	}
 	return estimate.PullPoint{ID: s.ID, Span: s.Span, AtM: s.AtM, End: s.End}.Text(length)
 }
 
