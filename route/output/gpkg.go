@@ -120,8 +120,9 @@ func gpkgLayers() []gpkgout.Layer {
 				c("span", tx, "for a handhole on a span: the span id (a lateral's: lateral of and its entrance)"),
 				c("at_m", re, "its distance from the span's from end (a lateral's building end), metres"),
 				c("status", tx, "existing or to build"), c("type", tx, "maintenance-hole, handhole or pull-box; to build: handhole, or splice closure (a splice point on an aerial span's strand)"),
-				c("purpose", tx, "to build: join, tap, turn, run, pull or splice (as added_structures); existing: slack loop, pull point (both joined by a comma) or passed"),
+				c("purpose", tx, "to build: join, tap, turn, run, pull or splice (as added_structures); existing: slack loop, pull point (both joined by a comma) or passed; then splice closure where a leg's mid-span join is placed (joined_text)"),
 				c("legs_text", tx, "legs through it, link/leg, joined by |"),
+				c("joined_text", tx, "legs with a mid-span join there (a splice closure, the next reel starting there), link/leg, joined by |; empty where none is"),
 			}},
 		{Name: LayerBuildings, Geometry: gpkgout.MultiPolygon,
 			Description: "every building of the campus",
@@ -376,7 +377,7 @@ func planLayers(ctx context.Context, r *route.Result, sts func() (structureList,
 	// The structures table.
 	for _, st := range found.all {
 		add(LayerAllStructures, st.Point, st.Mark, optional(st.ID, st.ID != ""), optional(st.Span, st.Span != ""),
-			optional(round1(st.AtM), st.Span != ""), st.Status, st.Type, st.Purpose, ListText(st.Legs))
+			optional(round1(st.AtM), st.Span != ""), st.Status, st.Type, st.Purpose, ListText(st.Legs), ListText(st.Joined))
 	}
 
 	// Buildings and their entrances.

@@ -412,3 +412,83 @@ func TestAerialSplicePointIsAClosure(t *testing.T) {
 		t.Fatalf("no splice point to build on the aerial span: %+v", rows)
 	}
 }
+
+// TestJoinsInStructuresTable plans the demo with reels of 400 m and holds the structures table
+// (and so the report's, bom.xlsx's structures sheet and plan.gpkg's structures layer) and
+// links.csv to the legs' joins (routing.CableTakeoff.Splices): a structure where a leg's
+// mid-span join is placed, existing or a handhole the plan adds, has the purpose splice closure
+// and names the leg among those joined there, and no other row does; links.csv's last column
+// lists each leg's join places as the links sheet does (tester 8 finding 3: the joins showed
+// only in the links sheet). A splice closure is stored in the structure with its slack
+// (TIA-758-B, from memory).
+func TestJoinsInStructuresTable(t *testing.T) {
+	t.Parallel()
+	s, p := testsite.Demo(t)
+	q := *p
+	q.Design.ReelM = 400
+	r := testplan.SolvePlan(t, s, &q)
+	type key struct {
+		id, span string
+		dm       int64
+	}
+	want := map[key][]string{}
+	for _, l := range r.Legs {
+		for _, sp := range l.Cable.Splices {
+			if k := (key{sp.ID, sp.Span, int64(math.Round(sp.AtM * 10))}); l.Feasible && !sp.NoStructure && !slices.Contains(want[k], l.Label()) {
+				want[k] = append(want[k], l.Label())
+			}
+		}
+	}
+	if len(want) == 0 {
+		t.Fatal("no join in a structure: nothing to test")
+	}
+	rows, err := StructuresOf(r)
+	if err != nil {
+		t.Fatal(err)
+	}
+	got := map[key][]string{}
+	for _, st := range rows {
+		closure := strings.HasSuffix(st.Purpose, ", "+PurposeSpliceClosure)
+		switch {
+		case st.Purpose == PurposeSplice: // a splice point to build: TestSplicePointsInStructuresTable
+			if !slices.Equal(st.Joined, st.Legs) {
+				t.Errorf("splice point %d: joined %v, want its legs %v", st.Mark, st.Joined, st.Legs)
+			}
+		case closure != (len(st.Joined) > 0):
+			t.Errorf("structure %d %s: purpose %q with legs joined %v", st.Mark, st.ID, st.Purpose, st.Joined)
+		case closure:
+			got[key{st.ID, st.Span, int64(math.Round(st.AtM * 10))}] = st.Joined
+			for _, l := range st.Joined {
+				if !slices.Contains(st.Legs, l) {
+					t.Errorf("structure %d %s: %s joined there but not through it (%v)", st.Mark, st.ID, l, st.Legs)
+				}
+			}
+		}
+	}
+	if !maps.EqualFunc(got, want, slices.Equal) {
+		t.Errorf("structures table's joins %v, the legs' joins %v", got, want)
+	}
+	files, err := Files(context.Background(), r, WriteOptions{SkipGeoPackage: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	csvRows := testplan.ReadCSV(t, testplan.FileOf(t, files, "links.csv"))
+	last := len(csvRows[0]) - 1
+	if csvRows[0][last] != "mid_span_splices_at" {
+		t.Fatalf("links.csv ends with %q", csvRows[0][last])
+	}
+	joins := 0
+	for i, l := range r.Legs {
+		want := ""
+		if l.Feasible {
+			want = SplicesText(WriteOptions{}, l.Cable.Splices)
+			joins += len(l.Cable.Splices)
+		}
+		if got := csvRows[i+1][last]; got != want {
+			t.Errorf("links.csv %s: joins at %q, want %q", l.Label(), got, want)
+		}
+	}
+	if joins < len(want) {
+		t.Errorf("links.csv lists %d joins, fewer than the %d places", joins, len(want))
+	}
+}

@@ -292,6 +292,9 @@ func linksCSV(out io.Writer, r *route.Result, opt WriteOptions) error {
 	head = append(head, passageHead...)
 	head = append(head, "reason_code")
 	head = append(head, scheduleHead(opt)...)
+	// Last, where the mid-span joins go (SplicesText, as bom.xlsx's links sheet): the
+	// structures table names the legs joined at each.
+	head = append(head, "mid_span_splices_at")
 	w.Write(head)
 	db := func(x float64) string { return strconv.FormatFloat(x, 'f', 2, 64) }
 	for i := range r.Legs {
@@ -324,7 +327,11 @@ func linksCSV(out io.Writer, r *route.Result, opt WriteOptions) error {
 			media.FormatCents(c.ConstructionCents), media.FormatCents(c.OpticsCents), InUnits(opt, l.Explain()))
 		row = append(row, passageText(l, tr)...)
 		row = append(row, l.ReasonCode)
-		w.Write(append(row, scheduleText(opt, r, i)...))
+		joins := ""
+		if l.Feasible {
+			joins = SplicesText(opt, l.Cable.Splices)
+		}
+		w.Write(append(append(row, scheduleText(opt, r, i)...), joins))
 	}
 	return w.Flush()
 }
