@@ -332,25 +332,8 @@ func TestSplicePointsNotPriced(t *testing.T) {
 // joins, keyed by span and offset to 0.1 m (the schedule's precision), not from the bill.
 func TestSplicePointsInStructuresTable(t *testing.T) {
 	t.Parallel()
-	s, p := testsite.Demo(t)
-	q := *p
-	q.Design.ReelM = 400
-	r := testplan.SolvePlan(t, s, &q)
-	type key struct {
-		span string
-		dm   int64
-	}
-	want := map[key][]string{}
-	for _, l := range r.Legs {
-		for _, sp := range l.Cable.Splices {
-			if l.Feasible && sp.NoStructure && sp.Span != "" {
-				k := key{sp.Span, int64(math.Round(sp.AtM * 10))}
-				if legs := want[k]; !slices.Contains(legs, l.Label()) {
-					want[k] = append(legs, l.Label())
-				}
-			}
-		}
-	}
+	r := reelDemo(t)
+	want := legJoins(r, false)
 	if len(want) == 0 {
 		t.Fatal("no splice point to build on a span: nothing to test")
 	}
@@ -358,12 +341,12 @@ func TestSplicePointsInStructuresTable(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	got := map[key][]string{}
+	got := map[joinKey][]string{}
 	for _, st := range rows {
 		if st.Purpose != PurposeSplice {
 			continue
 		}
-		k := key{st.Span, int64(math.Round(st.AtM * 10))}
+		k := joinKey{"", st.Span, int64(math.Round(st.AtM * 10))}
 		if _, twice := got[k]; twice || st.Status != StructureToBuild || st.Type != geo.StructureHandhole && st.Type != TypeSpliceClosure {
 			t.Errorf("splice row %+v: want one %s handhole or closure a place", st, StructureToBuild)
 		}
@@ -423,22 +406,8 @@ func TestAerialSplicePointIsAClosure(t *testing.T) {
 // (TIA-758-B, from memory).
 func TestJoinsInStructuresTable(t *testing.T) {
 	t.Parallel()
-	s, p := testsite.Demo(t)
-	q := *p
-	q.Design.ReelM = 400
-	r := testplan.SolvePlan(t, s, &q)
-	type key struct {
-		id, span string
-		dm       int64
-	}
-	want := map[key][]string{}
-	for _, l := range r.Legs {
-		for _, sp := range l.Cable.Splices {
-			if k := (key{sp.ID, sp.Span, int64(math.Round(sp.AtM * 10))}); l.Feasible && !sp.NoStructure && !slices.Contains(want[k], l.Label()) {
-				want[k] = append(want[k], l.Label())
-			}
-		}
-	}
+	r := reelDemo(t)
+	want := legJoins(r, true)
 	if len(want) == 0 {
 		t.Fatal("no join in a structure: nothing to test")
 	}
@@ -446,7 +415,7 @@ func TestJoinsInStructuresTable(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	got := map[key][]string{}
+	got := map[joinKey][]string{}
 	for _, st := range rows {
 		closure := strings.HasSuffix(st.Purpose, ", "+PurposeSpliceClosure)
 		switch {
@@ -457,7 +426,7 @@ func TestJoinsInStructuresTable(t *testing.T) {
 		case closure != (len(st.Joined) > 0):
 			t.Errorf("structure %d %s: purpose %q with legs joined %v", st.Mark, st.ID, st.Purpose, st.Joined)
 		case closure:
-			got[key{st.ID, st.Span, int64(math.Round(st.AtM * 10))}] = st.Joined
+			got[joinKey{st.ID, st.Span, int64(math.Round(st.AtM * 10))}] = st.Joined
 			for _, l := range st.Joined {
 				if !slices.Contains(st.Legs, l) {
 					t.Errorf("structure %d %s: %s joined there but not through it (%v)", st.Mark, st.ID, l, st.Legs)
@@ -491,4 +460,42 @@ func TestJoinsInStructuresTable(t *testing.T) {
 	if joins < len(want) {
 		t.Errorf("links.csv lists %d joins, fewer than the %d places", joins, len(want))
 	}
+}
+
+// reelDemo is the demo planned with reels of 400 m, which joins cables mid-span.
+func reelDemo(t *testing.T) *route.Result {
+	t.Helper()
+	s, p := testsite.Demo(t)
+	q := *p
+	q.Design.ReelM = 400
+	return testplan.SolvePlan(t, s, &q)
+}
+
+// joinKey is a place of a mid-span join: a structure by id, or a span and decimetres from its
+// from end (the schedule's precision).
+type joinKey struct {
+	id, span string
+	dm       int64
+}
+
+// legJoins is the feasible legs' mid-span joins (routing.CableTakeoff.Splices) by place, each
+// with the legs joined there in leg order: those placed in structures (inStructure), or else
+// the splice points to build on spans.
+func legJoins(r *route.Result, inStructure bool) map[joinKey][]string {
+	out := map[joinKey][]string{}
+	for _, l := range r.Legs {
+		for _, sp := range l.Cable.Splices {
+			if !l.Feasible || sp.NoStructure == inStructure || !inStructure && sp.Span == "" {
+				continue
+			}
+			k := joinKey{sp.ID, sp.Span, int64(math.Round(sp.AtM * 10))}
+			if !inStructure {
+				k.id = "" // a splice point's ID is the building its distance along the cable counts from
+			}
+			if !slices.Contains(out[k], l.Label()) {
+				out[k] = append(out[k], l.Label())
+			}
+		}
+	}
+	return out
 }
