@@ -131,6 +131,16 @@ func fmtBeyond(d, snap float64) string {
 	}
 }
 
+// EndName names the junction with the given ID as the end of a span a crew measures from: the
+// building it enters (Meeting.Buildings, joined by "/" where several), else its ID (a
+// structure's own id, or "J" and a number, which the outputs place by its coordinates).
+func (n *Network) EndName(junction string) string {
+	if m, ok := n.MeetingAt(junction); ok && len(m.Buildings) > 0 {
+		return strings.Join(m.Buildings, "/")
+	}
+	return junction
+}
+
 // MeetingAt returns what meets at the junction with the given ID. It takes O(1) on a Network
 // from Build and O(spans) on one assembled by hand.
 func (n *Network) MeetingAt(junction string) (Meeting, bool) {

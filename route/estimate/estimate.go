@@ -66,9 +66,15 @@ type PullSection struct {
 	Seq      int       // 1-based within the leg
 	From, To PullPoint // the pull points at its ends
 	Spans    []string  // span IDs in the section, in travel order
-	StartM   float64   // where the section starts along the leg's spans, from its served end, in metres
-	LengthM  float64
-	BendDeg  float64 // sum of the section's bends, in degrees
+	// StartM is where the section starts along the leg's route from its served building, in
+	// metres: a leg's sections start at 0 and follow on up to its route (routing.Leg.RouteM),
+	// a counted lateral at the served end first, then the spans from SpansStartM.
+	StartM float64
+	// SpansStartM is where the leg's spans start on StartM's scale: the counted lateral at its
+	// served building (0 without one).
+	SpansStartM float64
+	LengthM     float64
+	BendDeg     float64 // sum of the section's bends, in degrees
 	// BendRadiusM is the conduit bend radius the capstan's sidewall pressure uses (TIA-569
 	// multiples of the duct ID), the smallest in the section; 0 without bends.
 	BendRadiusM  float64
@@ -87,7 +93,7 @@ type PullSection struct {
 	// where it ends in a structure or taps a duct (site.Site.Tap), a pull of its own with no
 	// span; or, where it carries a duct on from the duct's dangling end, as part of the pull
 	// along that duct with the turn between them. "" for a section along spans alone. A
-	// lateral at the served end lies before the first span (StartM from minus its length).
+	// lateral at the served end lies before the first span (StartM below SpansStartM).
 	Lateral string
 }
 
@@ -99,7 +105,7 @@ func (p PullSection) SpansText() string {
 		return strings.Join(p.Spans, " ")
 	case len(p.Spans) == 0:
 		return "lateral of " + p.Lateral
-	case p.StartM < 0: // at the served end, before the spans
+	case p.StartM < p.SpansStartM-0.01: // at the served end, before the spans
 		return "lateral of " + p.Lateral + " " + strings.Join(p.Spans, " ")
 	}
 	return strings.Join(p.Spans, " ") + " lateral of " + p.Lateral
@@ -112,15 +118,19 @@ type PullPoint struct {
 	ID   string  // structure, junction or building ID; "" for a handhole the plan adds
 	Span string  // the span an added handhole stands on; "" for an ID
 	AtM  float64 // where on Span, in metres from its from end
+	// End names Span's from end, which AtM counts from (geo.Network.EndName; on a counted
+	// lateral, its building).
+	End string
 }
 
-// Text is the pull point as a person reads it: its ID, or "new handhole on SPAN at LENGTH"
-// with the offset written by length (the output's units; a number and its unit).
+// Text is the pull point as a person reads it: its ID, or "new handhole on SPAN, LENGTH from
+// the END end" (routing.AlongText) with the offset written by length (the output's units; a
+// number and its unit).
 func (p PullPoint) Text(length func(m float64) string) string {
 	if p.Span == "" {
 		return p.ID
 	}
-	return "new handhole on " + p.Span + " at " + length(p.AtM)
+	return "new handhole " + routing.AlongText(p.Span, p.End, p.AtM, length)
 }
 
 // MetresText writes a length as the estimate's warnings do (summary.json keeps them
@@ -448,18 +458,26 @@ func (r *run) pullPlan(i int) legPulls {
 		head, tail = &spans[0], &spans[len(spans)-1]
 	}
 	latTo, carryTo := r.lateralEnd(leg.Link.To, leg.EntranceTo, head)
+	// The sections are placed from the served building, whose counted lateral (pulled on its
+	// own, with the first duct, or not at all) comes before the spans, as in the leg's route.
+	lead := 0.0
+	for _, en := range s.Net.EntrancesOf(leg.Link.To) {
+		if en.ID == leg.EntranceTo {
+			lead = en.LateralM
+		}
+	}
 	latFrom, carryFrom := r.lateralEnd(leg.Link.From, leg.EntranceFrom, tail)
 	endM := cum[len(cum)-1]
 	name := func(x float64) (at PullPoint, key string) {
 		switch { // in a carried lateral: its building, or a handhole the plan adds along it
 		case carryTo.ID != "" && x < -0.01:
 			if off := x + carryTo.LateralM; off > 0.01 {
-				return PullPoint{Span: "lateral of " + carryTo.ID, AtM: off}, fmt.Sprintf("L:%s@%.0f", carryTo.ID, off)
+				return PullPoint{Span: "lateral of " + carryTo.ID, AtM: off, End: leg.Link.To}, fmt.Sprintf("L:%s@%.0f", carryTo.ID, off)
 			}
 			return PullPoint{ID: leg.Link.To}, "B:" + leg.Link.To
 		case carryFrom.ID != "" && x > endM+0.01:
 			if off := endM + carryFrom.LateralM - x; off > 0.01 {
-				return PullPoint{Span: "lateral of " + carryFrom.ID, AtM: off}, fmt.Sprintf("L:%s@%.0f", carryFrom.ID, off)
+				return PullPoint{Span: "lateral of " + carryFrom.ID, AtM: off, End: leg.Link.From}, fmt.Sprintf("L:%s@%.0f", carryFrom.ID, off)
 			}
 			return PullPoint{ID: leg.Link.From}, "B:" + leg.Link.From
 		}
@@ -480,7 +498,7 @@ func (r *run) pullPlan(i int) legPulls {
 		if leg.Steps[j].Reverse {
 			off = spans[j].LengthM - off
 		}
-		return PullPoint{Span: spans[j].ID, AtM: off}, fmt.Sprintf("S:%s@%.0f", spans[j].ID, off)
+		return PullPoint{Span: spans[j].ID, AtM: off, End: s.Net.EndName(spans[j].From)}, fmt.Sprintf("S:%s@%.0f", spans[j].ID, off)
 	}
 	seq := 0
 	// lateral pulls the counted lateral of entrance en, from building b to junction at, as
@@ -499,14 +517,14 @@ func (r *run) pullPlan(i int) legPulls {
 			case x > en.LateralM-0.01:
 				return PullPoint{ID: en.Junction}, "J:" + en.Junction
 			}
-			return PullPoint{Span: "lateral of " + en.ID, AtM: x}, fmt.Sprintf("L:%s@%.0f", en.ID, x)
+			return PullPoint{Span: "lateral of " + en.ID, AtM: x, End: b}, fmt.Sprintf("L:%s@%.0f", en.ID, x)
 		}
 		for _, sec := range plan.Sections {
 			seq++
 			ps := PullSection{Leg: i, Seq: seq, LengthM: sec.LengthM, TensionN: sec.MaxTensionN, RatedN: spec.MaxTensionN,
 				SWBPNPerM: sec.MaxSWBPNPerM, AddedFrom: sec.StartAdded, AddedTo: sec.EndAdded, WithinRating: sec.WithinRating,
 				Over: sec.Over, Lateral: en.ID}
-			ps.StartM = start + sec.StartM
+			ps.StartM, ps.SpansStartM = start+sec.StartM+lead, lead
 			var fromKey, toKey string
 			if served { // travel order: from the building to the junction
 				ps.From, fromKey = at(sec.StartM)
@@ -618,7 +636,7 @@ func (r *run) pullPlan(i int) legPulls {
 			seq++
 			start := cum[first] + sec.StartM - pre
 			end := start + sec.LengthM
-			ps := PullSection{Leg: i, Seq: seq, StartM: start, LengthM: sec.LengthM, BendDeg: sec.BendDeg,
+			ps := PullSection{Leg: i, Seq: seq, StartM: start + lead, SpansStartM: lead, LengthM: sec.LengthM, BendDeg: sec.BendDeg,
 				TensionN: sec.MaxTensionN, RatedN: spec.MaxTensionN, SWBPNPerM: sec.MaxSWBPNPerM,
 				AddedFrom: sec.StartAdded, AddedTo: sec.EndAdded, WithinRating: sec.WithinRating, Over: sec.Over}
 			var fromKey, toKey string

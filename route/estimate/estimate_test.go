@@ -929,6 +929,18 @@ func TestLateralTap(t *testing.T) {
 				t.Errorf("%s: pull %d along D %.1f m, want %.0f m", tc.link, k+1, got, m)
 			}
 		}
+		// Placed from the served building, the lateral first, as every other leg's pulls (tester 8
+		// finding 15: the lateral's pull started at -20 m): one after the other up to the route.
+		at := 0.0
+		for _, p := range ps {
+			if math.Abs(p.StartM-at) > 1e-6 {
+				t.Errorf("%s: pull %d starts at %.2f m, want %.2f m", tc.link, p.Seq, p.StartM, at)
+			}
+			at = p.StartM + p.LengthM
+		}
+		if math.Abs(at-leg.RouteM) > 1e-6 {
+			t.Errorf("%s: pulls end at %.2f m, the route is %.2f m", tc.link, at, leg.RouteM)
+		}
 		setups += float64(len(ps) * leg.Cable.Cables)
 		entries += tc.entries * float64(leg.Cable.Cables)
 		if got := lat.SpansText(); got != "lateral of "+leg.EntranceTo {
@@ -973,8 +985,8 @@ func TestLateralCarriesDuct(t *testing.T) {
 	if got, want := p.SpansText(), "lateral of "+leg.EntranceTo+" E"; got != want {
 		t.Errorf("pull runs along %q, want %q", got, want)
 	}
-	if math.Abs(p.StartM+20) > 0.5 {
-		t.Errorf("pull starts at %.2f m, want -20 (the lateral before the first span)", p.StartM)
+	if p.StartM != 0 || math.Abs(p.SpansStartM-20) > 0.5 {
+		t.Errorf("pull starts at %.2f m and its spans at %.2f m, want 0 (the served building) and 20 (after its lateral)", p.StartM, p.SpansStartM)
 	}
 }
 

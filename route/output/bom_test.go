@@ -541,13 +541,15 @@ func TestAddedPullPointInUnits(t *testing.T) {
 	}
 	ft := strconv.FormatFloat(at.AtM/0.3048, 'f', 1, 64)
 	m := strconv.FormatFloat(at.AtM, 'f', 1, 64)
+	sp, _ := r.Site.Net.Span(at.Span)
+	end := " from the " + r.Site.Net.EndName(sp.From) + " end" // the end AtM counts from, named
 	for _, tc := range []struct {
 		name string
 		opt  WriteOptions
 		want string
 	}{
-		{"imperial", WriteOptions{Units: UnitsImperial}, "new handhole on " + at.Span + " at " + ft + " ft"},
-		{"metric", WriteOptions{}, "new handhole on " + at.Span + " at " + m + " m"},
+		{"imperial", WriteOptions{Units: UnitsImperial}, "new handhole on " + at.Span + ", " + ft + " ft" + end},
+		{"metric", WriteOptions{}, "new handhole on " + at.Span + ", " + m + " m" + end},
 	} {
 		if got := PointText(tc.opt, at); got != tc.want {
 			t.Errorf("%s: got %q, want %q", tc.name, got, tc.want)

@@ -350,8 +350,8 @@ func feasibleLegs(r *route.Result) []*routing.Leg {
 // TestGeoPackagePullPoints: with at most 100 m between pull points the pull campus needs
 // intermediate pull points (TestPullPointAdded in route/estimate); plan.gpkg's added
 // structures hold one row per point the bill counts (estimate.Estimate.AddedPullPoints), read
-// back with ogrinfo, each where the pull sections name it ("new handhole on S at X m", X
-// from the span's from end) and on its span.
+// back with ogrinfo, each where the pull sections name it ("new handhole on S, X m from the
+// E end", X from the span's from end E) and on its span.
 func TestGeoPackagePullPoints(t *testing.T) {
 	t.Parallel()
 	r, err := testplan.PullSolve(t, 100, 2, func(p *plan.Plan) { p.Design.PullMaxM = 100 })
@@ -378,8 +378,8 @@ func TestGeoPackagePullPoints(t *testing.T) {
 	for _, p := range pts {
 		label := p.junction
 		if p.span != "" {
-			label = fmt.Sprintf("new handhole on %s at %.1f m", p.span, p.offM)
 			sp, _ := r.Site.Net.Span(p.span)
+			label = fmt.Sprintf("new handhole on %s, %.1f m from the %s end", p.span, p.offM, r.Site.Net.EndName(sp.From))
 			if p.offM <= 0 || p.offM >= sp.LengthM {
 				t.Errorf("%s: off the span of %.1f m", label, sp.LengthM)
 			}

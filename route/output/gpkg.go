@@ -120,8 +120,9 @@ func gpkgLayers() []gpkgout.Layer {
 				c("span", tx, "for a handhole on a span: the span id (a lateral's: lateral of and its entrance)"),
 				c("at_m", re, "its distance from the span's from end (a lateral's building end), metres"),
 				c("status", tx, "existing or to build"), c("type", tx, "maintenance-hole, handhole or pull-box; to build: handhole, or splice closure (a splice point on an aerial span's strand)"),
-				c("purpose", tx, "to build: join, tap, turn, run, pull or splice (as added_structures); existing: slack loop, pull point (both joined by a comma) or passed"),
+				c("purpose", tx, "to build: join, tap, turn, run, pull or splice (as added_structures); existing: slack loop, pull point (both joined by a comma) or passed; then splice closure where a leg's mid-span join is placed (joined_text)"),
 				c("legs_text", tx, "legs through it, link/leg, joined by |"),
+				c("joined_text", tx, "legs with a mid-span join there (a splice closure, the next reel starting there), link/leg, joined by |; empty where none is"),
 			}},
 		{Name: LayerBuildings, Geometry: gpkgout.MultiPolygon,
 			Description: "every building of the campus",
@@ -376,7 +377,7 @@ func planLayers(ctx context.Context, r *route.Result, sts func() (structureList,
 	// The structures table.
 	for _, st := range found.all {
 		add(LayerAllStructures, st.Point, st.Mark, optional(st.ID, st.ID != ""), optional(st.Span, st.Span != ""),
-			optional(round1(st.AtM), st.Span != ""), st.Status, st.Type, st.Purpose, ListText(st.Legs))
+			optional(round1(st.AtM), st.Span != ""), st.Status, st.Type, st.Purpose, ListText(st.Legs), ListText(st.Joined))
 	}
 
 	// Buildings and their entrances.
@@ -432,16 +433,17 @@ type pullPoint struct {
 	links          []string
 	legs           []string // the legs pulled there, "link/leg" (routing.Leg.Label), in leg order
 	// lateral: the point is on a counted lateral (drawn as lat), offM metres from its
-	// building; span is then "lateral of" and the entrance.
+	// building, end; span is then "lateral of" and the entrance.
 	lateral bool
 	lat     geo.Span
+	end     string
 }
 
 // addedPullPoints places the intermediate pull points of the estimate's pulls (the ends of
 // sections marked added), each once, as the bill counts them (estimate.Estimate.
 // AddedPullPoints: by junction, or by span and whole metre), sorted by junction, then span and
-// offset. A pull section's StartM is along the leg's spans from its served end (the router's
-// order, routing.Leg.Steps).
+// offset. A pull section's StartM is along the leg's route from its served building, its
+// spans (the router's order, routing.Leg.Steps) from SpansStartM.
 func addedPullPoints(r *route.Result) []pullPoint {
 	if r.Estimate == nil {
 		return nil
@@ -488,16 +490,17 @@ func addedPullPoints(r *route.Result) []pullPoint {
 			if !end.added || len(spans) == 0 {
 				continue
 			}
+			x := end.x - p.SpansStartM // along the spans, a lateral at the served end below 0
 			var k key
 			pp := pullPoint{}
-			if end.x < -0.01 || end.x > cum[len(cum)-1]+0.01 {
+			if x < -0.01 || x > cum[len(cum)-1]+0.01 {
 				// On a counted lateral pulled with the leg (estimate.PullSection.Lateral): the
 				// estimate named it by the lateral and metres from its building.
 				pt, b := p.From, l.Link.To
 				if end.x != p.StartM {
 					pt = p.To
 				}
-				if end.x > 0 {
+				if x > 0 {
 					b = l.Link.From
 				}
 				for _, en := range r.Site.Net.EntrancesOf(b) {
@@ -505,13 +508,13 @@ func addedPullPoints(r *route.Result) []pullPoint {
 						pp.lateral, pp.lat = true, geo.Span{Line: en.Lateral, LengthM: en.LateralM}
 					}
 				}
-				k, pp.span, pp.offM = key{span: pt.Span, m: math.Round(pt.AtM)}, pt.Span, pt.AtM
-			} else if j := slices.IndexFunc(cum, func(c float64) bool { return math.Abs(end.x-c) < 0.01 }); j > 0 && j < len(cum)-1 {
+				k, pp.span, pp.offM, pp.end = key{span: pt.Span, m: math.Round(pt.AtM)}, pt.Span, pt.AtM, pt.End
+			} else if j := slices.IndexFunc(cum, func(c float64) bool { return math.Abs(x-c) < 0.01 }); j > 0 && j < len(cum)-1 {
 				k, pp.junction = key{junction: juncs[j]}, juncs[j]
 			} else if j < 0 {
-				q, _ := slices.BinarySearch(cum, end.x)
+				q, _ := slices.BinarySearch(cum, x)
 				q = min(max(q-1, 0), len(spans)-1)
-				off := end.x - cum[q]
+				off := x - cum[q]
 				if l.Steps[q].Reverse {
 					off = spans[q].lengthM - off
 				}

@@ -20,6 +20,7 @@ import (
 	"spanwright/route/estimate"
 	"spanwright/route/internal/testplan"
 	"spanwright/route/internal/testsite"
+	"spanwright/route/plan"
 )
 
 // TestNotPricedListed plans the demo with a price book that leaves out the optional prices
@@ -323,25 +324,8 @@ func TestSplicePointsNotPriced(t *testing.T) {
 // joins, keyed by span and offset to 0.1 m (the schedule's precision), not from the bill.
 func TestSplicePointsInStructuresTable(t *testing.T) {
 	t.Parallel()
-	s, p := testsite.Demo(t)
-	q := *p
-	q.Design.ReelM = 400
-	r := testplan.SolvePlan(t, s, &q)
-	type key struct {
-		span string
-		dm   int64
-	}
-	want := map[key][]string{}
-	for _, l := range r.Legs {
-		for _, sp := range l.Cable.Splices {
-			if l.Feasible && sp.NoStructure && sp.Span != "" {
-				k := key{sp.Span, int64(math.Round(sp.AtM * 10))}
-				if legs := want[k]; !slices.Contains(legs, l.Label()) {
-					want[k] = append(legs, l.Label())
-				}
-			}
-		}
-	}
+	r := reelDemo(t)
+	want := legJoins(r, false)
 	if len(want) == 0 {
 		t.Fatal("no splice point to build on a span: nothing to test")
 	}
@@ -349,12 +333,12 @@ func TestSplicePointsInStructuresTable(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	got := map[key][]string{}
+	got := map[joinKey][]string{}
 	for _, st := range rows {
 		if st.Purpose != PurposeSplice {
 			continue
 		}
-		k := key{st.Span, int64(math.Round(st.AtM * 10))}
+		k := joinKey{"", st.Span, int64(math.Round(st.AtM * 10))}
 		if _, twice := got[k]; twice || st.Status != StructureToBuild || st.Type != geo.StructureHandhole && st.Type != TypeSpliceClosure {
 			t.Errorf("splice row %+v: want one %s handhole or closure a place", st, StructureToBuild)
 		}
@@ -367,4 +351,143 @@ func TestSplicePointsInStructuresTable(t *testing.T) {
 	if !ok || line.Quantity != float64(len(r.Estimate.SplicePoints)) || len(r.Estimate.SplicePoints) < len(want) {
 		t.Errorf("bill's splice points %v, estimate's list %d, on spans %d", line.Quantity, len(r.Estimate.SplicePoints), len(want))
 	}
+}
+
+// TestAerialSplicePointIsAClosure: hub A and building C 1,200 m apart on one existing aerial
+// span, with reels of 500 m: no structure on the pole line takes the joins, so each is a
+// splice point to build, and on an aerial span that is a splice closure on the strand, not a
+// handhole (tester 8 finding 16: "new handhole on A-1 at 136.3 m", typed splice closure): its
+// type is the closure and its place names no handhole. Common practice, no published source
+// (aerial cable is joined in a closure lashed to the strand).
+func TestAerialSplicePointIsAClosure(t *testing.T) {
+	t.Parallel()
+	line := fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":"AER","type":"aerial"},"geometry":{"type":"LineString","coordinates":[[%.7f,%.7f],[%.7f,%.7f]]}}`,
+		testsite.X(10), testsite.Y(0), testsite.X(1200), testsite.Y(0))
+	campus := `{"type":"FeatureCollection","features":[` + strings.Join([]string{testsite.Box("A", "mc", 0, 0), testsite.Box("C", "", 1210, 0), line}, ",") + `]}`
+	r, err := testplan.PullSolveJSON(t, campus, func(p *plan.Plan) { p.Design.ReelM = 500 })
+	if err != nil {
+		t.Fatal(err)
+	}
+	rows, err := StructuresOf(r)
+	if err != nil {
+		t.Fatal(err)
+	}
+	metres := func(m float64) string { return strconv.FormatFloat(m, 'f', 1, 64) + " m" }
+	n := 0
+	for _, st := range rows {
+		if st.Purpose != PurposeSplice {
+			continue
+		}
+		n++
+		if place := st.Place(metres); st.Type != TypeSpliceClosure || strings.Contains(place, "handhole") || !strings.HasPrefix(place, "new splice closure on AER, ") {
+			t.Errorf("splice point on the aerial span: type %q, place %q; want a splice closure on the strand, no handhole", st.Type, place)
+		}
+	}
+	if n == 0 {
+		t.Fatalf("no splice point to build on the aerial span: %+v", rows)
+	}
+}
+
+// TestJoinsInStructuresTable plans the demo with reels of 400 m and holds the structures table
+// (and so the report's, bom.xlsx's structures sheet and plan.gpkg's structures layer) and
+// links.csv to the legs' joins (routing.CableTakeoff.Splices): a structure where a leg's
+// mid-span join is placed, existing or a handhole the plan adds, has the purpose splice closure
+// and names the leg among those joined there, and no other row does; links.csv's last column
+// lists each leg's join places as the links sheet does (tester 8 finding 3: the joins showed
+// only in the links sheet). A splice closure is stored in the structure with its slack
+// (TIA-758-B, from memory).
+func TestJoinsInStructuresTable(t *testing.T) {
+	t.Parallel()
+	r := reelDemo(t)
+	want := legJoins(r, true)
+	if len(want) == 0 {
+		t.Fatal("no join in a structure: nothing to test")
+	}
+	rows, err := StructuresOf(r)
+	if err != nil {
+		t.Fatal(err)
+	}
+	got := map[joinKey][]string{}
+	for _, st := range rows {
+		closure := strings.HasSuffix(st.Purpose, ", "+PurposeSpliceClosure)
+		switch {
+		case st.Purpose == PurposeSplice: // a splice point to build: TestSplicePointsInStructuresTable
+			if !slices.Equal(st.Joined, st.Legs) {
+				t.Errorf("splice point %d: joined %v, want its legs %v", st.Mark, st.Joined, st.Legs)
+			}
+		case closure != (len(st.Joined) > 0):
+			t.Errorf("structure %d %s: purpose %q with legs joined %v", st.Mark, st.ID, st.Purpose, st.Joined)
+		case closure:
+			got[joinKey{st.ID, st.Span, int64(math.Round(st.AtM * 10))}] = st.Joined
+			for _, l := range st.Joined {
+				if !slices.Contains(st.Legs, l) {
+					t.Errorf("structure %d %s: %s joined there but not through it (%v)", st.Mark, st.ID, l, st.Legs)
+				}
+			}
+		}
+	}
+	if !maps.EqualFunc(got, want, slices.Equal) {
+		t.Errorf("structures table's joins %v, the legs' joins %v", got, want)
+	}
+	files, err := Files(context.Background(), r, WriteOptions{SkipGeoPackage: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	csvRows := testplan.ReadCSV(t, testplan.FileOf(t, files, "links.csv"))
+	last := len(csvRows[0]) - 1
+	if csvRows[0][last] != "mid_span_splices_at" {
+		t.Fatalf("links.csv ends with %q", csvRows[0][last])
+	}
+	joins := 0
+	for i, l := range r.Legs {
+		want := ""
+		if l.Feasible {
+			want = SplicesText(WriteOptions{}, l.Cable.Splices)
+			joins += len(l.Cable.Splices)
+		}
+		if got := csvRows[i+1][last]; got != want {
+			t.Errorf("links.csv %s: joins at %q, want %q", l.Label(), got, want)
+		}
+	}
+	if joins < len(want) {
+		t.Errorf("links.csv lists %d joins, fewer than the %d places", joins, len(want))
+	}
+}
+
+// reelDemo is the demo planned with reels of 400 m, which joins cables mid-span.
+func reelDemo(t *testing.T) *route.Result {
+	t.Helper()
+	s, p := testsite.Demo(t)
+	q := *p
+	q.Design.ReelM = 400
+	return testplan.SolvePlan(t, s, &q)
+}
+
+// joinKey is a place of a mid-span join: a structure by id, or a span and decimetres from its
+// from end (the schedule's precision).
+type joinKey struct {
+	id, span string
+	dm       int64
+}
+
+// legJoins is the feasible legs' mid-span joins (routing.CableTakeoff.Splices) by place, each
+// with the legs joined there in leg order: those placed in structures (inStructure), or else
+// the splice points to build on spans.
+func legJoins(r *route.Result, inStructure bool) map[joinKey][]string {
+	out := map[joinKey][]string{}
+	for _, l := range r.Legs {
+		for _, sp := range l.Cable.Splices {
+			if !l.Feasible || sp.NoStructure == inStructure || !inStructure && sp.Span == "" {
+				continue
+			}
+			k := joinKey{sp.ID, sp.Span, int64(math.Round(sp.AtM * 10))}
+			if !inStructure {
+				k.id = "" // a splice point's ID is the building its distance along the cable counts from
+			}
+			if !slices.Contains(out[k], l.Label()) {
+				out[k] = append(out[k], l.Label())
+			}
+		}
+	}
+	return out
 }

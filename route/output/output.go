@@ -293,6 +293,9 @@ func linksCSV(out io.Writer, r *route.Result, opt WriteOptions) error {
 	head = append(head, "reason_code")
 	head = append(head, scheduleHead(opt)...)
 	head = append(head, acceptanceHead()...)
+	// Last, where the mid-span joins go (SplicesText, as bom.xlsx's links sheet): the
+	// structures table names the legs joined at each.
+	head = append(head, "mid_span_splices_at")
 	w.Write(head)
 	db := func(x float64) string { return strconv.FormatFloat(x, 'f', 2, 64) }
 	for i := range r.Legs {
@@ -326,7 +329,11 @@ func linksCSV(out io.Writer, r *route.Result, opt WriteOptions) error {
 		row = append(row, passageText(l, tr)...)
 		row = append(row, l.ReasonCode)
 		row = append(row, scheduleOf(r, i).text(opt)...)
-		w.Write(append(row, acceptanceText(l)...))
+		joins := ""
+		if l.Feasible {
+			joins = SplicesText(opt, l.Cable.Splices)
+		}
+		w.Write(append(append(row, acceptanceText(l)...), joins))
 	}
 	return w.Flush()
 }
@@ -853,9 +860,12 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 				hi = p
 			}
 		}
+		// The pull nearest its cable's rating, not the largest tension: a share of the rating,
+		// said as such (tester 8 finding 17), with the tension and rating it is made of.
 		tn, rated := u.N(hi.TensionN), u.N(hi.RatedN)
-		fmt.Fprintf(w, "pulling: %s, %d over rating; highest %.1f %s of %.1f %s rated (%s %s, from %s to %s)\n",
-			Counted(s.PullSections, "pull section", "pull sections"), s.PullsOverRating, tn, u.Force, rated, u.Force, t(r.Legs[hi.Leg].Link.ID), t(r.Legs[hi.Leg].Name), t(PointText(opt, hi.From)), t(PointText(opt, hi.To)))
+		fmt.Fprintf(w, "pulling: %s, %d over rating; highest share of rating %.0f %%: %.1f %s of %.1f %s rated (%s %s, from %s to %s)\n",
+			Counted(s.PullSections, "pull section", "pull sections"), s.PullsOverRating, 100*hi.TensionN/hi.RatedN, tn, u.Force, rated, u.Force,
+			t(r.Legs[hi.Leg].Link.ID), t(r.Legs[hi.Leg].Name), t(PointText(opt, hi.From)), t(PointText(opt, hi.To)))
 	}
 	if line := fillLine(e.Fill); line != "" {
 		fmt.Fprintln(w, line)

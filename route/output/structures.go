@@ -25,6 +25,10 @@ const (
 	PurposePassed    = "passed"     // the cable only passes through
 	PurposeSlackLoop = "slack loop" // a slack loop is left there (site.Site.LoopStructure)
 	PurposePullPoint = "pull point" // a pull section starts or ends there
+	// PurposeSpliceClosure is added to the purposes of a structure where a leg's mid-span join
+	// is placed (routing.CableTakeoff.Splices): an existing one, or a handhole the plan adds
+	// at a junction or along new construction; Structure.Joined names the legs.
+	PurposeSpliceClosure = "splice closure"
 )
 
 // Structure is one row of the structures table: a handhole the plan adds, or an existing
@@ -36,25 +40,37 @@ type Structure struct {
 	ID   string // the structure's or junction's id; "" for a handhole on a span or lateral
 	// Span and AtM place a handhole that stands on a span (or a counted lateral, named
 	// "lateral of" and its entrance) and not at a junction: AtM metres from the span's from
-	// end (a lateral's from its building).
+	// end (a lateral's from its building), which End names (geo.Network.EndName).
 	Span   string
 	AtM    float64
+	End    string
 	Status string // StructureExisting or StructureToBuild
 	// Type is the structure's type (geo.Structure.Type: maintenance-hole, handhole,
 	// pull-box); a structure to build is a handhole.
 	Type string
 	// Purpose says why it is built (join, tap, turn, run, pull or splice: the added_structures
 	// layer's purposes) or what the plan does at an existing one (slack loop, pull point,
-	// both joined by ", ", or passed).
+	// both joined by ", ", or passed); where legs are joined (Joined), ", splice closure"
+	// after them (PurposeSpliceClosure), but at a splice point to build, whose purpose splice
+	// says it.
 	Purpose string
 	Point   orb.Point // WGS84 longitude and latitude, in degrees, rounded as geo.Rounded does
 	Legs    []string  // the feasible legs through it, "link/leg", in leg order
+	// Joined is the feasible legs with a mid-span join there (routing.CableTakeoff.Splices:
+	// the crew sets a splice closure and the next reel starts there), "link/leg", in leg
+	// order; empty where none is.
+	Joined []string
 }
 
-// Place is where a structure is, for a person: its id, or "new handhole on SPAN at LENGTH"
-// (estimate.PullPoint.Text) with the offset written by length.
+// Place is where a structure is, for a person: its id, or "new handhole on SPAN, LENGTH from
+// the END end" (estimate.PullPoint.Text) with the offset written by length; a splice point on
+// an aerial span is no handhole but a closure on the strand, "new splice closure on SPAN, …"
+// (tester 8 finding 16).
 func (s Structure) Place(length func(m float64) string) string {
-	return estimate.PullPoint{ID: s.ID, Span: s.Span, AtM: s.AtM}.Text(length)
+	if s.Type == TypeSpliceClosure && s.ID == "" {
+		return "new splice closure " + routing.AlongText(s.Span, s.End, s.AtM, length) + " (on the strand)"
+	}
+	return estimate.PullPoint{ID: s.ID, Span: s.Span, AtM: s.AtM, End: s.End}.Text(length)
 }
 
 // StructuresOf lists the structures of the plan: first the handholes it adds (at junctions,
@@ -67,7 +83,9 @@ func (s Structure) Place(length func(m float64) string) string {
 // those whose structures passed hold it (routing.CableTakeoff.Passed: the one list links.csv
 // counts too), each leaving one slack loop there per cable. A structure that stores no loop
 // (an existing pull box or vault, a handhole the pulling plan adds) lists the legs through it:
-// those whose spans meet there, those on its span, or those pulled there on a lateral.
+// those whose spans meet there, those on its span, or those pulled there on a lateral. The
+// legs joined at a structure (Joined) are those whose joins (routing.CableTakeoff.Splices, the
+// one list links.csv's mid_span_splices_at and the links sheet write too) are placed there.
 func StructuresOf(r *route.Result) ([]Structure, error) { return structuresOf(r, addedPullPoints(r)) }
 
 // structureList is a plan's added pull points (addedPullPoints) and its structures table
@@ -120,7 +138,7 @@ func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 		id, span string
 		atM      float64
 	}
-	passed := map[place][]string{}
+	passed, joined := map[place][]string{}, map[place][]string{}
 	for i := range r.Legs {
 		l := &r.Legs[i]
 		if !l.Feasible {
@@ -140,6 +158,11 @@ func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 			k := place{p.ID, p.Span, p.AtM}
 			passed[k] = append(passed[k], label) // each structure once in a leg's list
 		}
+		for _, p := range l.Cable.Splices { // in structures passed, but a splice point to build
+			if k := (place{p.ID, p.Span, p.AtM}); !p.NoStructure && !slices.Contains(joined[k], label) {
+				joined[k] = append(joined[k], label)
+			}
+		}
 	}
 	legsAt := func(k place) []string {
 		if legs := passed[k]; legs != nil {
@@ -154,6 +177,12 @@ func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 		if s.Legs == nil {
 			s.Legs = []string{}
 		}
+		if s.Joined == nil {
+			s.Joined = []string{}
+		}
+		if len(s.Joined) > 0 && s.Purpose != PurposeSplice {
+			s.Purpose += ", " + PurposeSpliceClosure
+		}
 		out = append(out, s)
 	}
 	for _, h := range handholesByJunction(r.Handholes) {
@@ -162,7 +191,7 @@ func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 			return nil, fmt.Errorf("handhole at %s: not a junction of the network", h.Junction)
 		}
 		add(Structure{ID: h.Junction, Status: StructureToBuild, Type: geo.StructureHandhole, Purpose: h.Purpose(),
-			Point: j.Point, Legs: legsAt(place{id: h.Junction})})
+			Point: j.Point, Legs: legsAt(place{id: h.Junction}), Joined: joined[place{id: h.Junction}]})
 	}
 	if r.Estimate != nil {
 		for _, h := range r.Estimate.Construction.RunHandholes {
@@ -170,8 +199,8 @@ func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 			if !ok {
 				return nil, fmt.Errorf("handhole along new construction on %s: not a span of the network", h.Span)
 			}
-			add(Structure{Span: h.Span, AtM: h.AtM, Status: StructureToBuild, Type: geo.StructureHandhole, Purpose: PurposeRun,
-				Point: sp.PointAt(h.AtM), Legs: legsAt(place{span: h.Span, atM: h.AtM})})
+			add(Structure{Span: h.Span, AtM: h.AtM, End: net.EndName(sp.From), Status: StructureToBuild, Type: geo.StructureHandhole, Purpose: PurposeRun,
+				Point: sp.PointAt(h.AtM), Legs: legsAt(place{span: h.Span, atM: h.AtM}), Joined: joined[place{span: h.Span, atM: h.AtM}]})
 		}
 	}
 	for _, p := range pulls {
@@ -184,13 +213,13 @@ func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 			}
 			s.ID, s.Point, s.Legs = p.junction, j.Point, atJunction[p.junction]
 		case p.lateral:
-			s.Span, s.AtM, s.Point, s.Legs = p.span, p.offM, p.lat.PointAt(p.offM), p.legs
+			s.Span, s.AtM, s.End, s.Point, s.Legs = p.span, p.offM, p.end, p.lat.PointAt(p.offM), p.legs
 		default:
 			sp, ok := net.Span(p.span)
 			if !ok {
 				return nil, fmt.Errorf("pull point on %s: not a span of the network", p.span)
 			}
-			s.Span, s.AtM, s.Point, s.Legs = p.span, p.offM, sp.PointAt(p.offM), onSpan[p.span]
+			s.Span, s.AtM, s.End, s.Point, s.Legs = p.span, p.offM, net.EndName(sp.From), sp.PointAt(p.offM), onSpan[p.span]
 		}
 		add(s)
 	}
@@ -199,8 +228,8 @@ func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 		for _, i := range sp.Legs {
 			legs = append(legs, r.Legs[i].Label())
 		}
-		add(Structure{Span: sp.At.Span, AtM: sp.At.AtM, Status: StructureToBuild, Type: sp.typ, Purpose: PurposeSplice,
-			Point: sp.point, Legs: legs})
+		add(Structure{Span: sp.At.Span, AtM: sp.At.AtM, End: sp.At.End, Status: StructureToBuild, Type: sp.typ, Purpose: PurposeSplice,
+			Point: sp.point, Legs: legs, Joined: legs})
 	}
 	// Existing structures passed, with what is done there.
 	pulled := map[string]bool{}
@@ -230,7 +259,7 @@ func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 			what = append(what, PurposePassed)
 		}
 		add(Structure{ID: st.ID, Status: StructureExisting, Type: st.Type, Purpose: strings.Join(what, ", "),
-			Point: st.Point, Legs: legs})
+			Point: st.Point, Legs: legs, Joined: joined[place{id: st.ID}]})
 	}
 	return out, nil
 }

@@ -11,6 +11,7 @@ import (
 
 	"spanwright/geo"
 	"spanwright/route/internal/testplan"
+	"spanwright/route/internal/testsite"
 )
 
 // TestStructuresOfDemo holds the structures table of the demo to the figures the bill and
@@ -261,5 +262,50 @@ func TestStructuresTableIsTheSchedule(t *testing.T) {
 			}
 			t.Logf("%s: %d legs, %d structures passed, %d turn junctions (%d in turn handholes)", tc.name, checked, passes, len(turns), n)
 		})
+	}
+}
+
+// TestRunHandholeNamesItsEnd: a new duct of 590 m from hub A's east wall (x = 10 m) to C's
+// west wall (x = 600 m), drawn from C, gets handholes every 150 m (handhole_spacing_m); each
+// row of the structures table names the end its distance counts from, a building, and stands
+// that far from that building's wall (tester 8 finding 9: "new handhole on N-GRH at 150.0 m"
+// was counted from an end it did not name, and read as a chainage from the other).
+func TestRunHandholeNamesItsEnd(t *testing.T) {
+	t.Parallel()
+	duct := fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":"P1","type":"duct","status":"proposed","method":"trench"},"geometry":{"type":"LineString","coordinates":[[%.7f,%.7f],[%.7f,%.7f]]}}`,
+		testsite.X(600), testsite.Y(0), testsite.X(10), testsite.Y(0))
+	campus := `{"type":"FeatureCollection","features":[` + strings.Join([]string{testsite.Box("A", "mc", 0, 0), testsite.Box("C", "", 610, 0), duct}, ",") + `]}`
+	r, err := testplan.PullSolveJSON(t, campus, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	sts, err := StructuresOf(r)
+	if err != nil {
+		t.Fatal(err)
+	}
+	wallM := map[string]float64{"A": 10, "C": 600}
+	metres := func(m float64) string { return strconv.FormatFloat(m, 'f', 1, 64) + " m" }
+	runs := 0
+	for _, st := range sts {
+		if st.Purpose != PurposeRun {
+			continue
+		}
+		runs++
+		wall, ok := wallM[st.End]
+		want := "new handhole on P1, " + metres(st.AtM) + " from the " + st.End + " end"
+		if got := st.Place(metres); !ok || got != want {
+			t.Errorf("structure %d: %q (end %q), want %q with the end a building, A or C", st.Mark, got, st.End, want)
+			continue
+		}
+		// Where it stands, in metres east of A's centre on the grid (testsite.X inverted, a
+		// sphere's metres: within 1 % of the ellipsoid's, which tells the ends apart 10 m or
+		// more).
+		x := (st.Point[0] + 1) * 111320 * math.Cos(testsite.Lat*math.Pi/180)
+		if math.Abs(math.Abs(x-wall)-st.AtM) > 0.01*st.AtM {
+			t.Errorf("%s stands %.1f m from %s's wall", st.Place(metres), math.Abs(x-wall), st.End)
+		}
+	}
+	if runs != 3 {
+		t.Errorf("%d handholes along the new duct, want 3 (590 m at 150 m spacing)", runs)
 	}
 }

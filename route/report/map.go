@@ -395,8 +395,12 @@ func buildMap(ctx context.Context, r *route.Result, opt Options, med map[string]
 			continue
 		}
 		q := p.at(st.Point[0], st.Point[1])
+		what := "handhole to add"
+		if st.Type == output.TypeSpliceClosure {
+			what = "to add" // Place says what it is: a splice closure on the strand
+		}
 		m.Turns = append(m.Turns, mark{X: num(q.X), Y: num(q.Y), Shape: "square", Class: "st turn",
-			Title: st.Place(opt.lengthU) + ": handhole to add, " + purposeWords(st.Purpose)})
+			Title: st.Place(opt.lengthU) + ": " + what + ", " + purposeWords(st.Purpose)})
 	}
 	for _, c := range m.Counts {
 		taken = append(taken, c.at)
@@ -752,6 +756,8 @@ func purposeWords(purpose string) string {
 		return "along new construction (handhole spacing or bend budget)"
 	case output.PurposePull:
 		return "an intermediate pull point"
+	case output.PurposeSplice:
+		return "a mid-span join with no structure within its reel's reach"
 	}
 	return purpose
 }

@@ -178,6 +178,7 @@ type structureRow struct {
 	Status, Type, Purpose string
 	Lon, Lat              string
 	Legs                  string
+	Joined                string // the legs with a mid-span join there (output.Structure.Joined)
 	ToBuild               bool
 }
 
@@ -590,9 +591,10 @@ func structureRows(sts []output.Structure, opt Options) ([]structureRow, listed)
 	out := make([]structureRow, shown.Shown)
 	for i, st := range sts[:shown.Shown] {
 		legs, more := input.Shown(st.Legs, structureLegs)
+		joined, moreJoined := input.Shown(st.Joined, structureLegs)
 		out[i] = structureRow{Mark: st.Mark, Place: st.Place(opt.lengthU), Status: st.Status, Type: st.Type, Purpose: st.Purpose,
 			Lon: strconv.FormatFloat(st.Point[0], 'f', 7, 64), Lat: strconv.FormatFloat(st.Point[1], 'f', 7, 64), Legs: strings.Join(legs, ", ") + more,
-			ToBuild: st.Status == output.StructureToBuild}
+			Joined: strings.Join(joined, ", ") + moreJoined, ToBuild: st.Status == output.StructureToBuild}
 	}
 	return out, shown
 }

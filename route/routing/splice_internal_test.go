@@ -18,15 +18,16 @@ func TestPlaceJoins(t *testing.T) {
 	d := plan.Design{ReelM: 105, WastePct: 5, SlackLoopStructureM: 3} // 100 m of channel a reel
 	passes := []SplicePoint{{ID: "MH-1", ChannelM: 30}, {ID: "HH-2", ChannelM: 90}, {ID: "J7", Added: true, ChannelM: 150}, {ID: "MH-3", ChannelM: 260}}
 	sp := &geo.Span{ID: "A-1", LengthM: 200}
-	spans := []spanOnChannel{{span: sp, reverse: true, startM: 100}} // channel 100 → 300 m, drawn the other way
+	spans := []spanOnChannel{{span: sp, fromEnd: "MH-9", reverse: true, startM: 100}} // channel 100 → 300 m, drawn the other way
 	splices, reels := placeJoins(d, passes, spans, 300, 315, "B1")
 	var at []string
 	for _, p := range splices {
 		at = append(at, p.Text(func(m float64) string { return strconv.FormatFloat(m, 'f', 1, 64) + " m" }))
 	}
 	// 90 (HH-2, last of 30 and 90 within 100 m); 150 (J7 within 190); none in (150, 250]:
-	// the reel's end at 250 m, 150 m into A-1 in travel order, 50 m from its from end.
-	want := []string{"HH-2", "J7 (handhole to add)", "no structure: on A-1 at 50.0 m"}
+	// the reel's end at 250 m, 150 m into A-1 in travel order, 50 m from its from end, named
+	// as the end the distance counts from (tester 8 finding 9).
+	want := []string{"HH-2", "J7 (handhole to add)", "no structure: on A-1, 50.0 m from the MH-9 end"}
 	if !slices.Equal(at, want) {
 		t.Errorf("joins at %q, want %q", at, want)
 	}

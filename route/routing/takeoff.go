@@ -157,7 +157,7 @@ func (t CableTakeoff) joinsAtReelEnds(d plan.Design) (CableTakeoff, bool) {
 
 // SplicePoint is a place along a leg: a structure by its ID (a junction's, for a handhole the
 // plan adds there: Added), or a handhole the plan adds along new construction on Span, AtM
-// metres from its from end. NoStructure marks a mid-span splice that no structure within
+// metres from its from end, named End (geo.Network.EndName). NoStructure marks a mid-span splice that no structure within
 // reach of its reel could take: it is on Span at AtM, or, off the spans (in a riser, a slack
 // loop or a lateral), ChannelM metres along the cable from building ID; a splice point (a
 // handhole, or a closure on the strand of an aerial span) is to be built there.
@@ -165,6 +165,7 @@ type SplicePoint struct {
 	ID          string
 	Span        string
 	AtM         float64
+	End         string // Span's from end, which AtM counts from, as AlongText names it
 	Added       bool
 	NoStructure bool
 	// AtReelEnd marks a NoStructure splice placed at its reel's end although a structure
@@ -180,15 +181,29 @@ type SplicePoint struct {
 func (p SplicePoint) Text(length func(m float64) string) string {
 	switch {
 	case p.NoStructure && p.Span != "":
-		return "no structure: on " + p.Span + " at " + length(p.AtM)
+		return "no structure: " + AlongText(p.Span, p.End, p.AtM, length)
 	case p.NoStructure:
 		return "no structure: " + length(p.ChannelM) + " along the cable from " + p.ID
 	case p.ID == "":
-		return "new handhole on " + p.Span + " at " + length(p.AtM)
+		return "new handhole " + AlongText(p.Span, p.End, p.AtM, length)
 	case p.Added:
 		return p.ID + " (handhole to add)"
 	}
 	return p.ID
+}
+
+// AlongText is a place atM metres along span (or along a counted lateral, "lateral of" its
+// entrance) from its end named end (geo.Network.EndName: a building, a structure, a junction),
+// as a person reads it, with the length written by length: "on N-GRH, 150.0 m from the GRH
+// end". Named so because a distance alone reads as a chainage from wherever the crew starts
+// (tester 8 finding 9). The one text of such a place: a pull point (estimate.PullPoint.Text),
+// a splice point and a handhole along new construction (SplicePoint.Text), the structures
+// table's rows. Without an end (a point assembled by hand): "on SPAN at LENGTH".
+func AlongText(span, end string, atM float64, length func(m float64) string) string {
+	if end == "" {
+		return "on " + span + " at " + length(atM)
+	}
+	return "on " + span + ", " + length(atM) + " from the " + end + " end"
 }
 
 // builtOn is where the plan builds handholes, which the legs' structure lists (passesOf)
@@ -266,10 +281,10 @@ func passesOf(s *site.Site, d plan.Design, leg *Leg, built builtOn) ([]SplicePoi
 			hh[i] = m
 		}
 		start := at
-		spans = append(spans, spanOnChannel{span: &sp, reverse: st.Reverse, startM: start, loopsAt: hh})
+		spans = append(spans, spanOnChannel{span: &sp, fromEnd: s.Net.EndName(sp.From), reverse: st.Reverse, startM: start, loopsAt: hh})
 		for i, m := range hh {
 			at = start + m + float64(i)*d.SlackLoopStructureM
-			pass(SplicePoint{Span: sp.ID, AtM: offs[i], Added: true})
+			pass(SplicePoint{Span: sp.ID, AtM: offs[i], End: s.Net.EndName(sp.From), Added: true})
 		}
 		at = start + sp.LengthM + float64(len(hh))*d.SlackLoopStructureM
 	}
@@ -302,24 +317,25 @@ func (t CableTakeoff) Passes(j string) bool {
 
 // spanOnChannel is a span of a leg's route where it lies along the channel: from startM, in
 // travel order, with the slack loops of the handholes along it at loopsAt (metres into it in
-// travel order).
+// travel order); fromEnd names its from end (geo.Network.EndName).
 type spanOnChannel struct {
 	span    *geo.Span
+	fromEnd string
 	reverse bool
 	startM  float64
 	loopsAt []float64
 }
 
-// locate finds channel position atM on the spans: the span and metres from its from end; false
-// off the spans (a riser, coil, lateral or slack loop).
-func locate(spans []spanOnChannel, loopM, atM float64) (string, float64, bool) {
+// locate finds channel position atM on the spans: the span, metres from its from end and that
+// end's name; false off the spans (a riser, coil, lateral or slack loop).
+func locate(spans []spanOnChannel, loopM, atM float64) (string, float64, string, bool) {
 	for _, sc := range spans {
 		into := atM - sc.startM
 		for _, h := range sc.loopsAt {
 			if into > h+loopM {
 				into -= loopM
 			} else if into > h {
-				return "", 0, false // in that handhole's loop
+				return "", 0, "", false // in that handhole's loop
 			}
 		}
 		if into < 0 || into > sc.span.LengthM {
@@ -328,9 +344,9 @@ func locate(spans []spanOnChannel, loopM, atM float64) (string, float64, bool) {
 		if sc.reverse {
 			into = sc.span.LengthM - into
 		}
-		return sc.span.ID, into, true
+		return sc.span.ID, into, sc.fromEnd, true
 	}
-	return "", 0, false
+	return "", 0, "", false
 }
 
 // placeJoins places the mid-span splices of a channel channelM metres long whose structures
@@ -360,8 +376,8 @@ func placeJoins(d plan.Design, passes []SplicePoint, spans []spanOnChannel, chan
 		p := SplicePoint{ID: served, NoStructure: true, ChannelM: start + capM}
 		if best >= 0 {
 			p = passes[best]
-		} else if id, m, ok := locate(spans, d.SlackLoopStructureM, p.ChannelM); ok {
-			p.Span, p.AtM = id, m
+		} else if id, m, end, ok := locate(spans, d.SlackLoopStructureM, p.ChannelM); ok {
+			p.Span, p.AtM, p.End = id, m, end
 		}
 		splices = append(splices, p)
 		start = p.ChannelM
