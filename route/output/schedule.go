@@ -78,14 +78,15 @@ func (s schedule) text(opt WriteOptions) []string {
 // sheetCells is s as the last cells of the links sheet (its schedule columns: jacket colour,
 // cable labels, cut length, inside cables, inside cuts and inside labels; the cables, reels,
 // slack loops and structures passed are among the takeoff's cells before them), lengths in u
-// unrounded, shown to 0.1; blank as text is empty.
+// to 0.1 as links.csv writes them, so that the sheet's pieces add up to the bill's cable
+// lines as links.csv's do (cableCut); blank as text is empty.
 func (s schedule) sheetCells(u Units) []workbook.Cell {
 	inside := []workbook.Cell{workbook.Blank(), workbook.Blank(), workbook.Blank(), workbook.Blank()}
 	if s.inside {
-		inside = []workbook.Cell{workbook.Int(int64(s.insideCables)), workbook.Number(u.M(s.insideToM), 1),
-			workbook.Number(u.M(s.insideFromM), 1), workbook.Text(strings.Join(s.insideLabels, " "))}
+		inside = []workbook.Cell{workbook.Int(int64(s.insideCables)), workbook.Number(u.Rounded(s.insideToM, 1), 1),
+			workbook.Number(u.Rounded(s.insideFromM, 1), 1), workbook.Text(strings.Join(s.insideLabels, " "))}
 	}
-	out := append([]workbook.Cell{workbook.Text(s.jacket), workbook.Text(strings.Join(s.labels, " ")), workbook.Number(u.M(s.cutM), 1)}, inside...)
+	out := append([]workbook.Cell{workbook.Text(s.jacket), workbook.Text(strings.Join(s.labels, " ")), workbook.Number(u.Rounded(s.cutM, 1), 1)}, inside...)
 	if !s.feasible {
 		return make([]workbook.Cell, len(out))
 	}
