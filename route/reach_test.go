@@ -28,7 +28,7 @@ func farPair(t *testing.T, dM float64) *route.Result {
 	return r
 }
 
-var os2Reach = regexp.MustCompile(`os2: the shortest route it may use is ([0-9.]+) m along pathways, beyond the ([0-9.]+) m it reaches there`)
+var os2Reach = regexp.MustCompile(`os2: the shortest route it may use is ([0-9.]+) m along pathways with the slack loops it leaves in structures, beyond the ([0-9.]+) m it reaches there`)
 
 // TestReachQuotedIsTheBudgets: the reach an unroutable link's reason quotes is the one the
 // loss budget allows with the splices the plan puts in a channel that long: the mid-span

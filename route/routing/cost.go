@@ -174,7 +174,7 @@ func (lay *layout) explain(in optimize.Infeasible, l *site.Link, why func(medium
 			msgs[i] = fmt.Sprintf("%s: every pathway between %s and %s runs on spans it may not use; the shortest runs on %s",
 				f.Name, l.From, l.To, strings.Join(parts, "; and on "))
 		case optimize.FailReach:
-			msgs[i] = fmt.Sprintf("%s: the shortest route it may use is %.1f m along pathways, beyond the %.1f m it reaches there", f.Name, f.ShortestM, f.ReachM)
+			msgs[i] = fmt.Sprintf("%s: the shortest route it may use is %.1f m along pathways with the slack loops it leaves in structures, beyond the %.1f m it reaches there", f.Name, f.ShortestM, f.ReachM)
 		default:
 			msgs[i] = f.Name + ": every route within reach crosses ducts too full for the cable"
 		}

@@ -126,7 +126,7 @@ func TestExplainInfeasible(t *testing.T) {
 	}}, &site.Link{From: "ADM", To: "OBS"}, why)
 	want := "cat6a: every pathway between ADM and OBS runs on spans it may not use; the shortest runs on ducts, where its cable does not fit the innerduct; " +
 		"and on buried spans (cat6a rejected by copper-outdoor: outdoors); and on duct, high EMI spans (cat6a rejected by copper-emi: EMI); " +
-		"om4: the shortest route it may use is 612.3 m along pathways, beyond the 400.0 m it reaches there; os2: no pathway joins its two ends"
+		"om4: the shortest route it may use is 612.3 m along pathways with the slack loops it leaves in structures, beyond the 400.0 m it reaches there; os2: no pathway joins its two ends"
 	if got != want {
 		t.Errorf("got  %s\nwant %s", got, want)
 	}

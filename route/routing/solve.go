@@ -586,25 +586,43 @@ func tapOf(s *site.Site, e geo.Entry) string {
 // leaves in each handhole the plan builds at a junction of at (Routed.Handholes), as its legs'
 // takeoffs count it (passesOf), whichever route's turn, tap or join builds it: half a loop at
 // each span end there that the edge does not count already (a joining end, joinEnds), none
-// on the turn edges there, which the spans' halves now cover. The search's own edges count a
-// loop only where the route itself turns or joins; a route passing straight through another's
-// handhole leaves a loop there all the same.
+// on the turn edges there, which the spans' halves now cover, and half, not a whole, on an
+// entrance edge whose lateral taps there. The search's own edges count a loop only where the
+// route itself turns, joins or taps; a route passing straight through another's handhole
+// leaves a loop there all the same. A junction where only aerial spans meet keeps the
+// search's count: a leg passing it overhead leaves no loop (throughHandhole), one turning
+// there does (its turn edge). An aerial span's end at a junction where ducts meet too counts
+// half a loop, so a leg passing there overhead is counted a loop it does not leave: the
+// reach errs short, never long.
 func passLoops(s *site.Site, d plan.Design, lay *layout, prob *optimize.Problem, at map[string]bool) *optimize.Problem {
 	p := *prob
 	p.Edges = slices.Clone(prob.Edges)
 	half := d.SlackLoopStructureM / 2
+	underground := map[string]bool{} // junctions of at where a span other than aerial ends
+	for i := range s.Net.Spans {
+		sp := &s.Net.Spans[i]
+		for _, j := range [2]string{sp.From, sp.To} {
+			if at[j] && sp.Type != geo.TypeAerial {
+				underground[j] = true
+			}
+		}
+	}
 	for i := range s.Net.Spans {
 		sp := &s.Net.Spans[i]
 		for k, j := range [2]string{sp.From, sp.To} {
 			counted := sp.Status == geo.StatusProposed && s.JoinsNetwork(j) && !lay.carriedEnd[i][k]
-			if at[j] && !counted {
+			if underground[j] && !counted {
 				p.Edges[i].ReachM += half
 			}
 		}
 	}
 	for k, x := range lay.extra {
-		if x.kind == edgeTurn && at[x.junction] {
-			p.Edges[len(s.Net.Spans)+k].ReachM = 0
+		e := &p.Edges[len(s.Net.Spans)+k]
+		switch {
+		case x.kind == edgeTurn && underground[x.junction]:
+			e.ReachM = 0
+		case x.kind == edgeEntrance && underground[x.junction] && x.entry.LateralM > 0 && s.TapOf(x.entry):
+			e.ReachM -= half
 		}
 	}
 	return &p
