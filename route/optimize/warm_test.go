@@ -20,18 +20,24 @@ func repriced(p *Problem, trench, cable float64) *Problem {
 	return q
 }
 
+// warmBase is the campus the warm-start tests reprice, its plan and that plan as a start.
+func warmBase(t *testing.T) (*Problem, *Solution, []StartRoute) {
+	t.Helper()
+	base := campus(campusSpec{buildings: 40, seed: 31, diverseFrac: 0.1, options: 3, capacity: true, proposedPct: 15})
+	bs, err := Solve(base, Settings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return base, bs, StartFrom(bs)
+}
+
 // TestWarmStart solves price scenarios of one campus from the base scenario's plan: each plan
 // is valid (verify), never costs more than the start it was given priced in the scenario,
 // and is the same on a second solve; start routes that do not fit (another demand ID, an edge
 // out of range, a leg that does not reach the anchor) are ignored.
 func TestWarmStart(t *testing.T) {
 	t.Parallel()
-	base := campus(campusSpec{buildings: 40, seed: 31, diverseFrac: 0.1, options: 3, capacity: true, proposedPct: 15})
-	bs, err := Solve(base, Settings{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	start := StartFrom(bs)
+	base, bs, start := warmBase(t)
 	for _, sc := range []struct{ trench, cable float64 }{{1, 1}, {0.3, 1}, {3, 1}, {1, 4}} {
 		name := fmt.Sprintf("trench×%.1f cable×%.1f", sc.trench, sc.cable)
 		p := repriced(base, sc.trench, sc.cable)
@@ -123,12 +129,7 @@ func countProposed(p *Problem) int {
 // plan is valid and its bound the same as without PlaceOnly.
 func TestPlaceOnly(t *testing.T) {
 	t.Parallel()
-	base := campus(campusSpec{buildings: 40, seed: 31, diverseFrac: 0.1, options: 3, capacity: true, proposedPct: 15})
-	bs, err := Solve(base, Settings{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	start := StartFrom(bs)
+	base, _, start := warmBase(t)
 	p := repriced(base, 3, 1)
 	got, err := Solve(p, Settings{Start: start, PlaceOnly: true})
 	if err != nil {
