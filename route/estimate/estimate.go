@@ -1111,6 +1111,8 @@ func (r *run) construction() {
 			}
 			c.AddedDuctM += float64(n) * sp.LengthM
 			r.newFrom[keyAddedDuct] = append(r.newFrom[keyAddedDuct], fromSpan(id))
+		}
+		if items.EntersHoles(sp.Type) {
 			c.holeWalls(s, &sp, r.newFrom)
 		}
 	}
@@ -1167,7 +1169,7 @@ func (r *run) construction() {
 	}
 }
 
-// holeWalls counts the walls of existing maintenance holes the new duct along span sp enters
+// holeWalls counts the walls of existing maintenance holes the new duct or buried cable along span sp enters
 // (items.HoleWalls), and the span among those the bill line is from.
 func (c *Construction) holeWalls(s *site.Site, sp *geo.Span, from map[string][]string) {
 	if n := items.HoleWalls(s, sp); n > 0 {

@@ -1120,4 +1120,18 @@ func TestHoleEntries(t *testing.T) {
 	if _, ok := testplan.BOMLine(solve(testsite.PullCampus(25, 0), nil).Estimate.BOM, items.HoleEntryItem); ok {
 		t.Errorf("HH-1 a handhole: the bill enters a maintenance hole's wall")
 	}
+
+	// New trench P direct-buried (tester 9's finding 1), its end at a maintenance hole where D
+	// carries on into it (210, 0): its cable goes through the hole's wall as new duct would.
+	buried := strings.Replace(testsite.PullCampus(25, 4), `"id":"P","type":"duct"`, `"id":"P","type":"buried"`, 1)
+	buried = strings.Replace(buried, fmt.Sprintf("[%.7f,%.7f]}}", testsite.X(110), testsite.Y(0)), fmt.Sprintf("[%.7f,%.7f]}}", testsite.X(210), testsite.Y(0)), 1)
+	buried = strings.Replace(buried, `"id":"HH-1","type":"handhole"`, `"id":"MH-2","type":"maintenance-hole"`, 1)
+	r3 := solve(buried, nil)
+	if !slices.Contains(r3.Opened, "P") {
+		t.Fatalf("campus changed: P not opened (%v)", r3.Opened)
+	}
+	line, ok = testplan.BOMLine(r3.Estimate.BOM, items.HoleEntryItem)
+	if !ok || line.Quantity != 1 || r3.Estimate.Construction.HoleWalls != 1 {
+		t.Errorf("buried P into MH-2: line %+v (found %v), want 1 wall (D has spare ducts: no trench beside it)", line, ok)
+	}
 }

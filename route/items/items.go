@@ -426,8 +426,15 @@ func HoleWalls(s *site.Site, sp *geo.Span) int {
 	return n
 }
 
-// HoleEntryItem is the bill item of new duct entering an existing maintenance hole.
-const HoleEntryItem = "maintenance hole entry for new duct: wall penetration, duct terminators, seal"
+// HoleEntryItem is the bill item of new duct, or cable buried in a new trench, entering an
+// existing maintenance hole.
+const HoleEntryItem = "maintenance hole entry for new duct or buried cable: wall penetration, duct terminators or sleeve, seal"
+
+// EntersHoles reports whether new work of pathway type typ (an opened proposed span) enters
+// the existing maintenance holes at its ends through their walls (HoleWalls): new duct, and a
+// new trench's direct-buried cable, which needs a sleeve through the wall and a seal as duct
+// needs its terminators (tester 9's finding 1; common practice, no published source).
+func EntersHoles(typ string) bool { return typ == geo.TypeDuct || typ == geo.TypeBuried }
 
 // HoleEntries is what new duct takes where it enters existing maintenance holes through n
 // walls (HoleWalls): breaking into the wall (core drill, or a knockout where the hole has one),

@@ -804,6 +804,11 @@ func legRowOf(r *route.Result, l *routing.Leg, opt Options, med map[string]mediu
 		for _, x := range l.Losses {
 			if x.WavelengthNM == nm {
 				c = lossCell{Text: dB(x.LossDB), Field: dB(x.FieldLimitDB), Operating: x.Operating}
+				if x.AttenuatorDB > 0 {
+					// The loss holds the attenuator, the field test does not (tester 9's
+					// finding 2: "7.84 ≤ 5.34" read as a link failing its own test).
+					c.Field += " without the " + strconv.FormatFloat(x.AttenuatorDB, 'f', -1, 64) + " dB attenuator"
+				}
 			}
 		}
 		row.Losses = append(row.Losses, c)

@@ -3,6 +3,7 @@ package routing
 import (
 	"context"
 	"fmt"
+	"slices"
 	"strings"
 	"testing"
 
@@ -16,23 +17,16 @@ import (
 // and by duct E, which bends 100 m south halfway and so is a few metres longer. Ducts leave
 // D north at three junctions near Z to buildings B1–B3, whose routes turn there: the plan
 // builds a handhole at each, and a cable along D to Z passes the three straight through.
-func passCampus(lengthM float64) string {
-	line := func(id string, pts ...float64) string {
-		var c []string
-		for i := 0; i+1 < len(pts); i += 2 {
-			c = append(c, fmt.Sprintf("[%.7f,%.7f]", testsite.X(pts[i]), testsite.Y(pts[i+1])))
-		}
-		return fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":%q,"type":"duct"},"geometry":{"type":"LineString","coordinates":[%s]}}`, id, strings.Join(c, ","))
-	}
+func passCampus(lengthM float64) []byte {
 	f := []string{testsite.Box("A", "mc", 0, 0), testsite.Box("Z", "", lengthM, 0)}
 	d := []float64{0, 0}
 	for i, back := range []float64{1500, 1000, 500} {
 		x := lengthM - back
 		d = append(d, x, 0)
-		f = append(f, testsite.Box(fmt.Sprintf("B%d", i+1), "", x, 130), line(fmt.Sprintf("N%d", i+1), x, 0, x, 120))
+		f = append(f, testsite.Box(fmt.Sprintf("B%d", i+1), "", x, 130), testsite.Pathway(fmt.Sprintf("N%d", i+1), geo.TypeDuct, x, 0, x, 120))
 	}
-	f = append(f, line("D", append(d, lengthM, 0)...), line("E", 0, 0, lengthM/2, -100, lengthM, 0))
-	return `{"type":"FeatureCollection","features":[` + strings.Join(f, ",") + `]}`
+	f = append(f, testsite.Pathway("D", geo.TypeDuct, append(d, lengthM, 0)...), testsite.Pathway("E", geo.TypeDuct, 0, 0, lengthM/2, -100, lengthM, 0))
+	return testsite.Features(f...)
 }
 
 // TestLoopsInOthersHandholesWithinReach: a leg's channel counts a slack loop in every
@@ -53,15 +47,7 @@ func TestLoopsInOthersHandholesWithinReach(t *testing.T) {
 	}
 	setup := func(lengthM float64) (*site.Site, *Model, []site.Link) {
 		t.Helper()
-		c, err := geo.Parse("t.geojson", []byte(passCampus(lengthM)))
-		if err != nil {
-			t.Fatal(err)
-		}
-		net, err := geo.Build(c, geo.Options{})
-		if err != nil {
-			t.Fatal(err)
-		}
-		s := site.NewSite(c, net)
+		s := testsite.Campus(t, "t.geojson", passCampus(lengthM))
 		links, _, errs := s.Links(&p, "A")
 		if len(errs) > 0 {
 			t.Fatal(errs)
@@ -77,12 +63,7 @@ func TestLoopsInOthersHandholesWithinReach(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		z := -1
-		for i, l := range links {
-			if l.To == "Z" {
-				z = i
-			}
-		}
+		z := slices.IndexFunc(links, func(l site.Link) bool { return l.To == "Z" })
 		for _, o := range prob.Demands[z].Options {
 			maxM = max(maxM, o.MaxRouteM)
 		}

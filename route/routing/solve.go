@@ -136,10 +136,7 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 	}
 	sol, cold, reused, err := solve(ctx, s, lay, prob, opt, same)
 	if err != nil {
-		if ctx.Err() != nil {
-			return nil, ctx.Err()
-		}
-		return nil, fmt.Errorf("route: optimizer: %w", err)
+		return nil, optimizerErr(ctx, err)
 	}
 	r := &Routed{StartSame: reused}
 	if start == nil || reused {
@@ -169,13 +166,9 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 		again.Start, again.PlaceOnly = optimize.StartFrom(sol), true
 		sol2, _, _, err := solve(ctx, s, lay, passLoops(s, m.design, lay, prob, handholeJunctions(r.Handholes)), again, "")
 		if err != nil {
-			if ctx.Err() != nil {
-				return nil, ctx.Err()
-			}
-			return nil, fmt.Errorf("route: optimizer: %w", err)
+			return nil, optimizerErr(ctx, err)
 		}
 		r2 := *r
-		r2.Legs = nil // r's own are kept if the first plan stands
 		legs2, unpaid2, err := m.measure(ctx, s, lay, prob, sol2, links, infos, runs, &r2)
 		if err != nil {
 			return nil, err
@@ -226,7 +219,7 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 // no used tap paid (prepaidTaps).
 func (m *Model) measure(ctx context.Context, s *site.Site, lay *layout, prob *optimize.Problem, sol *optimize.Solution, links []site.Link, infos []demandInfo, runs []site.NewRun, r *Routed) (legs [][]Leg, unpaid int64, err error) {
 	r.ObjectiveCents, r.LowerBoundCents, r.Fill = sol.TotalCents, sol.LowerBoundCents, fillReport(s, prob, sol)
-	r.Opened, r.Runs = nil, nil
+	r.Opened, r.Runs, r.Legs = nil, nil, nil // fresh: a copy of r (SolveFrom's mend) keeps its own
 	for _, e := range sol.Opened {
 		r.Opened = append(r.Opened, s.Net.Spans[e].ID)
 	}
@@ -288,13 +281,24 @@ func (m *Model) measure(ctx context.Context, s *site.Site, lay *layout, prob *op
 // reach (sol).
 func beyondReach(sol *optimize.Solution, legs [][]Leg) bool {
 	for i, ls := range legs {
+		if !sol.Routes[i].Feasible {
+			continue
+		}
 		for _, l := range ls {
-			if sol.Routes[i].Feasible && !l.Feasible && l.Steps != nil {
+			if !l.Feasible && l.Steps != nil {
 				return true
 			}
 		}
 	}
 	return false
+}
+
+// optimizerErr is the error of a failed optimizer run: ctx's when it was stopped.
+func optimizerErr(ctx context.Context, err error) error {
+	if ctx.Err() != nil {
+		return ctx.Err()
+	}
+	return fmt.Errorf("route: optimizer: %w", err)
 }
 
 // infeasibleLegs counts the legs that are not feasible.
