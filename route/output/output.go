@@ -994,12 +994,14 @@ func (s Summary) PricedNote() string {
 
 // NotPricedNote says, when the book leaves out prices the bill needs, that the total leaves
 // their lines out, naming the keys; "" when every line is priced. The report prints it beside
-// the total and a sweep's comparison in the scenario's note, where totals are ranked.
+// the total and a sweep's comparison in the scenario's note, where totals are ranked; the keys
+// sorted, as the comparison's rank and pareto name them ("1 (without …)", sweep.Row.Exclusion;
+// tester 9's finding 6: two orders in one row).
 func (s Summary) NotPricedNote() string {
 	if len(s.NotPriced) == 0 {
 		return ""
 	}
-	return "not priced, left out of the total: " + strings.Join(s.NotPriced, ", ") + " (see the warnings)"
+	return "not priced, left out of the total: " + strings.Join(slices.Sorted(slices.Values(s.NotPriced)), ", ") + " (see the warnings)"
 }
 
 // PricedNoteOf is r's PricedNote, counted from its legs without the rest of the summary.

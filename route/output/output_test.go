@@ -112,7 +112,7 @@ func campusCase(n int) plannedCase {
 // quantity in feet times the unit price per foot, as written, is the extended price (the
 // metric line's, so that the totals agree in either units) to the cent, |q × p − x| < 0.005,
 // as an estimator checks every extension (review 4 finding 2: 4 decimals left rows of the
-// 200-building campus off by up to 7.37 USD). The price shows at least four decimals (a
+// 200-building campus off by up to 7.45 USD). The price shows at least four decimals (a
 // tenth of a cent a foot, as cable is quoted: common practice, no published source) and no
 // more than the row needs (six or seven decimals on every line read as noise to an
 // estimator: tester 5's finding 17); bom.xlsx holds the same price, shown alike. The bill's

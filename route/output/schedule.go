@@ -185,7 +185,7 @@ func JacketText(r *route.Result, l *routing.Leg) string {
 }
 
 // StrandsText is what a table in words gives as leg l's strands: the count for fibre,
-// "4 pairs" for a feasible copper leg, whose count is its pairs (routing.Leg.StrandsCable).
+// "N pairs" for a feasible copper leg, whose count is its pairs, 4 a cable (routing.Leg.StrandsCable).
 // links.csv, routes.geojson and plan.gpkg give the number alone, documented as pairs for copper.
 func StrandsText(cat *media.Catalog, l *routing.Leg) string {
 	n := strconv.Itoa(l.StrandsCable)

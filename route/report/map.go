@@ -743,21 +743,27 @@ func structureKeys(sts []output.Structure, p *projection, taken []xy, length fun
 	return out
 }
 
-// purposeWords says in words why a handhole is built (output.Structure.Purpose).
+// purposeWords says in words why a handhole is built (output.Structure.Purpose: its
+// purposes joined by ", ", each put in words).
 func purposeWords(purpose string) string {
-	switch purpose {
-	case output.PurposeJoin:
-		return "where new pathway joins the network"
-	case output.PurposeTap:
-		return "where a lateral taps a duct"
-	case output.PurposeTurn:
-		return "where a route turns between pathways"
-	case output.PurposeRun:
-		return "along new construction (handhole spacing or bend budget)"
-	case output.PurposePull:
-		return "an intermediate pull point"
-	case output.PurposeSplice:
-		return "a mid-span join with no structure within its reel's reach"
+	parts := strings.Split(purpose, ", ")
+	for i, part := range parts {
+		switch part {
+		case output.PurposeJoin:
+			parts[i] = "where new pathway joins the network"
+		case output.PurposeTap:
+			parts[i] = "where a lateral taps a duct"
+		case output.PurposeTurn:
+			parts[i] = "where a route turns between pathways"
+		case output.PurposeRun:
+			parts[i] = "along new construction (handhole spacing or bend budget)"
+		case output.PurposePull:
+			parts[i] = "an intermediate pull point"
+		case output.PurposeSplice:
+			parts[i] = "a mid-span join with no structure within its reel's reach"
+		case output.PurposeSpliceClosure:
+			parts[i] = "a mid-span join's splice closure"
+		}
 	}
-	return purpose
+	return strings.Join(parts, "; ")
 }

@@ -20,7 +20,7 @@ func TestRowNotesNotPriced(t *testing.T) {
 		{[]string{"link to B dropped"}, nil, "link to B dropped"},
 		{nil, []string{"patch_cords_each"}, "not priced, left out of the total: patch_cords_each (see the warnings)"},
 		{[]string{"link to B dropped"}, []string{"patch_cords_each", "building_entrance_each"},
-			"link to B dropped; not priced, left out of the total: patch_cords_each, building_entrance_each (see the warnings)"},
+			"link to B dropped; not priced, left out of the total: building_entrance_each, patch_cords_each (see the warnings)"},
 	} {
 		var r Row
 		r.fill(output.Summary{Notes: c.notes, NotPriced: c.notPriced})
