@@ -99,6 +99,39 @@ func TestNoHandholeAtAPole(t *testing.T) {
 				}
 			}
 			oneCostModel(t, tc.name, r)
+
+			// With reels that run out just past the pole on A-B, the join goes where the reel
+			// ends: on the strand as a splice closure (NoStructure, on a span), not in a
+			// handhole at the pole; at a riser pole, in the handhole at its foot, the last
+			// structure before the reel's end (TIA-758-B: a closure stored in a maintenance
+			// hole or handhole, from memory).
+			_, plain := testplan.LegOf(t, r, "A-B")
+			poleM := -1.0
+			for _, sc := range plain.Cable.Passed {
+				if sc.ID == pole {
+					poleM = sc.ChannelM
+				}
+			}
+			r, err = testplan.PullSolveJSON(t, campus, func(p *plan.Plan) {
+				p.Dir, p.Prices = dir, "prices.yaml"
+				p.Design.AllowNewTrench = true
+				p.Design.ReelM = 260
+			})
+			if err != nil {
+				t.Fatal(err)
+			}
+			_, ab = testplan.LegOf(t, r, "A-B")
+			if !ab.Feasible || len(ab.Cable.Splices) == 0 {
+				t.Fatalf("with reel_m 260: leg A-B feasible %v, splices %+v; want a join", ab.Feasible, ab.Cable.Splices)
+			}
+			join := ab.Cable.Splices[0]
+			if !tc.handhole {
+				if join.ID == pole || join.Added || !join.NoStructure || join.Span == "" || !strings.HasPrefix(join.Span, "A-") {
+					t.Errorf("with reel_m 260: the join %+v, want a splice closure on a span of the line, not in a handhole at %s", join, pole)
+				}
+			} else if join.ID != pole || !join.Added || poleM <= 0 {
+				t.Errorf("with reel_m 260: the join %+v (the pole at %.1f m of the channel), want it in the handhole at %s", join, poleM, pole)
+			}
 		})
 	}
 }
