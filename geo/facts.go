@@ -27,6 +27,14 @@ type Meeting struct {
 	// counts twice.
 	Degree    int
 	Structure bool // the junction is a maintenance hole, handhole or pull box
+	// Open marks a junction without a structure where every span is aerial (a pole: the
+	// cable is lashed to the strand and turns or branches on the pole) or every span is a
+	// tunnel or tray (the cable lies on racks or in a tray, in reach all along): a cable
+	// passes there from any span into any other with nothing built (PassOpen). Where an
+	// aerial span meets a duct or a buried cable (a riser pole), or a tunnel or tray meets
+	// one, the cable goes into the ground there and is not open (common practice, no
+	// published source).
+	Open bool
 	// Buildings lists, sorted, the buildings the junction is an entrance of without a counted
 	// lateral (a pathway end on the footprint, or a declared entrance on a pathway): there the
 	// cable is in the building.
@@ -49,11 +57,15 @@ type Pass string
 // rule of a pull point after at most two 90° bends of conduit is the related published rule,
 // from memory.) A turn at a building's entrance (Meeting.Buildings) is made inside the
 // building, where the cable leaves its duct anyway: it needs no structure, but it passes
-// through the building, which Transit says whether routes may do.
+// through the building, which Transit says whether routes may do. Where only aerial spans
+// meet (a pole), or only tunnels and trays, nothing is underground: the cable is lashed to
+// the strand at the pole, or lies on the racks or in the tray, and turns there as it is
+// placed (Meeting.Open).
 const (
 	PassStraight       Pass = "straight"        // degree 2, pieces of one pathway, or one run of duct (RunsAt)
 	PassAtStructure    Pass = "structure"       // a turn from one pathway into another at a structure
 	PassInBuilding     Pass = "building"        // a turn at an entrance, inside the building
+	PassOpen           Pass = "open"            // a turn where only aerial spans (a pole) or only tunnels and trays meet
 	PassNeedsStructure Pass = "needs-structure" // a turn with three or more spans, no structure and no building
 )
 
@@ -161,10 +173,12 @@ func (n *Network) MeetingAt(junction string) (Meeting, bool) {
 // meetingOf gathers from the spans and entrances of n what meets at junction j.
 func meetingOf(j Junction, n *Network) Meeting {
 	m := Meeting{Junction: j.ID, Structure: j.Kind == JunctionStructure}
+	var open openWays
 	for _, s := range n.Spans {
 		if s.From != j.ID && s.To != j.ID {
 			continue
 		}
+		open.add(s.Type)
 		m.Spans = append(m.Spans, s.ID)
 		m.Pathways = append(m.Pathways, s.PathwayID)
 		if s.From == j.ID {
@@ -180,7 +194,27 @@ func meetingOf(j Junction, n *Network) Meeting {
 		}
 	}
 	sort.Strings(m.Buildings)
+	m.Open = !m.Structure && open.open()
 	return m
+}
+
+// openWays gathers the types of the spans that meet at a junction, for Meeting.Open.
+type openWays struct{ aerial, inside, other int }
+
+func (o *openWays) add(typ string) {
+	switch typ {
+	case TypeAerial:
+		o.aerial++
+	case TypeTunnel, TypeTray:
+		o.inside++
+	default:
+		o.other++
+	}
+}
+
+// open reports whether the spans are all aerial, or all tunnels and trays (Meeting.Open).
+func (o openWays) open() bool {
+	return o.other == 0 && (o.aerial == 0) != (o.inside == 0)
 }
 
 // PassAt says how a cable passes from span from to span to at the junction with the given ID
@@ -208,6 +242,8 @@ func (n *Network) PassAt(junction, from, to string) (p Pass, ok bool) {
 		return PassAtStructure, true
 	case len(m.Buildings) > 0:
 		return PassInBuilding, true
+	case m.Open:
+		return PassOpen, true
 	}
 	var at []int // the spans ending there, in index order
 	for i := range n.Spans {
@@ -440,14 +476,19 @@ func (b *builder) facts(n *Network) {
 		m.Spans, m.Pathways = spans[off:off:off+m.Degree], pathways[off:off:off+m.Degree]
 		off += m.Degree
 	}
+	open := make([]openWays, len(n.Meetings))
 	for _, s := range n.Spans {
 		for _, end := range [2]string{s.From, s.To} {
 			m := &n.Meetings[at[end]]
 			if k := len(m.Spans); k == 0 || m.Spans[k-1] != s.ID {
 				m.Spans = append(m.Spans, s.ID)
 				m.Pathways = append(m.Pathways, s.PathwayID)
+				open[at[end]].add(s.Type)
 			}
 		}
+	}
+	for i := range n.Meetings {
+		n.Meetings[i].Open = !n.Meetings[i].Structure && open[i].open()
 	}
 	for _, e := range n.Entrances { // sorted by building
 		if e.Via == ViaFootprint || (e.Via == ViaEntrance && e.LateralM == 0) {

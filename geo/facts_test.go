@@ -89,6 +89,51 @@ func TestPassAtTJunction(t *testing.T) {
 	}
 }
 
+// TestPassAtPole: where only aerial spans meet with no structure (a pole), or only tunnels
+// and trays, a cable turns from one pathway into another with nothing built (PassOpen): on
+// the pole it is lashed to the strand and turned, on racks and trays it lies in reach. Where
+// an aerial span meets a duct or a direct-buried cable (a riser pole), or a tunnel meets a
+// pole line, the turn still needs a structure. Meeting.Open says the same, on a network from
+// Build and on one assembled by hand (common practice, no published source).
+func TestPassAtPole(t *testing.T) {
+	t.Parallel()
+	typed := func(p Pathway, typ string) Pathway { p.Type = typ; return p }
+	for _, tc := range []struct {
+		line, branch string
+		want         Pass
+	}{
+		{TypeAerial, TypeAerial, PassOpen},
+		{TypeTunnel, TypeTray, PassOpen},
+		{TypeTray, TypeTray, PassOpen},
+		{TypeAerial, TypeDuct, PassNeedsStructure},
+		{TypeDuct, TypeAerial, PassNeedsStructure},
+		{TypeAerial, TypeBuried, PassNeedsStructure},
+		{TypeAerial, TypeTunnel, PassNeedsStructure},
+	} {
+		c := Campus{Pathways: []Pathway{typed(pw("A", ml(0, 0, 100, 0, 200, 0)), tc.line), typed(pw("B", ml(100, 0, 100, 100)), tc.branch)}}
+		n := build(t, &c)
+		j := junctionAt(t, n, 100, 0)
+		byHand := Network{Junctions: n.Junctions, Spans: n.Spans}
+		for _, net := range []*Network{n, &byHand} {
+			if got, ok := net.PassAt(j, "A/1", "B"); !ok || got != tc.want {
+				t.Errorf("%s line, %s branch: A/1 → B got %q %v, want %q", tc.line, tc.branch, got, ok, tc.want)
+			}
+			if got, _ := net.PassAt(j, "A/1", "A/2"); got != PassStraight {
+				t.Errorf("%s line, %s branch: A/1 → A/2 got %q, want %q", tc.line, tc.branch, got, PassStraight)
+			}
+			if m, _ := net.MeetingAt(j); m.Open != (tc.want == PassOpen) {
+				t.Errorf("%s line, %s branch: meeting %+v, want Open %v", tc.line, tc.branch, m, tc.want == PassOpen)
+			}
+		}
+		// A structure drawn at the pole junction is one: the turn is made at it.
+		c.Structures = []Structure{{Source: Source{File: "t.geojson", Index: 2}, ID: "MH-1", Type: StructureMaintenanceHole, Point: at(100, 0)}}
+		n = build(t, &c)
+		if m, _ := n.MeetingAt("MH-1"); m.Open {
+			t.Errorf("%s line, %s branch at MH-1: meeting %+v, want not Open (a structure)", tc.line, tc.branch, m)
+		}
+	}
+}
+
 // TestPassAtDuctInPieces: a duct drawn as two pathways meeting end to end (two spans at the
 // junction) is a straight continuation, even with a bend there.
 func TestPassAtDuctInPieces(t *testing.T) {

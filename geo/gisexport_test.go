@@ -246,6 +246,10 @@ func TestTradeWordHints(t *testing.T) {
 		{"pull box", structure("pull box"), `got string "pull box"; did you mean "pull-box"?`},
 		{"maintenance hole", structure("Maintenance Hole"), `got string "Maintenance Hole"; did you mean "maintenance-hole"?`},
 		{"vault", structure("vault"), `got string "vault"; a vault large enough for a person to enter is a "maintenance-hole", a smaller one a "handhole"`},
+		// A pole is the junction of aerial spans, not a structure (Meeting.Open).
+		{"pole", structure("pole"), `got string "pole"; ` + poleWhy},
+		{"utility pole", structure("Utility Pole"), `got string "Utility Pole"; ` + poleWhy},
+		{"pole line pathway", pathway("type", "pole line"), `got string "pole line"; did you mean "aerial"?`},
 		{"conduit", pathway("type", "conduit"), `got string "conduit"; did you mean "duct"?`},
 		{"duct bank", pathway("type", "Duct Bank"), `got string "Duct Bank"; did you mean "duct"?`},
 		{"overhead", pathway("type", "overhead"), `got string "overhead"; did you mean "aerial"?`},

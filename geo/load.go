@@ -1138,12 +1138,19 @@ var notOneValue = map[string]struct {
 	among []string
 	why   string
 }{
-	"vault":     {[]string{StructureMaintenanceHole, StructureHandhole}, `a vault large enough for a person to enter is a "maintenance-hole", a smaller one a "handhole"`},
-	"abandoned": {[]string{StatusExisting, StatusProposed}, "a pathway that can carry no cable is left out of the campus"},
-	"retired":   {[]string{StatusExisting, StatusProposed}, "a pathway that can carry no cable is left out of the campus"},
-	"paved":     {[]string{SurfaceAsphalt, SurfaceConcrete}, `say which paving: "asphalt" or "concrete"`},
-	"paving":    {[]string{SurfaceAsphalt, SurfaceConcrete}, `say which paving: "asphalt" or "concrete"`},
+	"vault":        {[]string{StructureMaintenanceHole, StructureHandhole}, `a vault large enough for a person to enter is a "maintenance-hole", a smaller one a "handhole"`},
+	"pole":         {[]string{StructureMaintenanceHole, StructureHandhole}, poleWhy},
+	"utility-pole": {[]string{StructureMaintenanceHole, StructureHandhole}, poleWhy},
+	"riser-pole":   {[]string{StructureMaintenanceHole, StructureHandhole}, poleWhy},
+	"abandoned":    {[]string{StatusExisting, StatusProposed}, "a pathway that can carry no cable is left out of the campus"},
+	"retired":      {[]string{StatusExisting, StatusProposed}, "a pathway that can carry no cable is left out of the campus"},
+	"paved":        {[]string{SurfaceAsphalt, SurfaceConcrete}, `say which paving: "asphalt" or "concrete"`},
+	"paving":       {[]string{SurfaceAsphalt, SurfaceConcrete}, `say which paving: "asphalt" or "concrete"`},
 }
+
+// poleWhy is the hint for a structure typed as a pole: a pole is no structure in the ground
+// but the junction of aerial spans (Meeting.Open), or a riser pole beside a handhole.
+const poleWhy = `a pole is not drawn as a structure: leave it out and draw the aerial pathways meeting at its point; where only aerial spans meet, routes turn on the pole with nothing built, and where an aerial span meets a duct (a riser pole) draw the "handhole" at its foot`
 
 func containsAll(list, of []string) bool {
 	for _, s := range of {

@@ -299,7 +299,10 @@ func nonPercent(p *media.PriceBook) []media.BidItem {
 // PullPoint reports whether a cable's pull breaks at junction j: a structure (site.IsStructure)
 // splits a pull into sections, each set up on its own (media.CrewPullSetup). Handholes the
 // plan adds along new construction, where a route turns and where new pathway joins the
-// network (JoinEnds) are pull points too.
+// network (JoinEnds) are pull points too. A pole where only aerial spans meet, or a point
+// where only tunnels and trays meet (geo.Meeting.Open), is none: the cable is placed along the
+// strand or racks through it, turned there with corner hardware, with no set-up of its own
+// (common practice, no published source).
 func PullPoint(s *site.Site, j string) bool { return s.IsStructure(j) }
 
 // JoinEnds counts the ends of span sp where a route along it passes a handhole the plan adds

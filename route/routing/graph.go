@@ -33,7 +33,8 @@ import (
 //     the building's node by its own entrance edge, the edges of one entrance sharing a
 //     shared-risk group (so two legs of a diverse link do not use one entrance twice).
 //   - A junction where three or more spans of different pathways meet with no structure and no
-//     building is split into one node per run of duct through it (geo.Network.RunsAt: a span,
+//     building, and not aerial spans only (a pole) nor tunnels and trays only, where a route
+//     turns on the pole or the rack with nothing built (geo.Meeting.Open), is split into one node per run of duct through it (geo.Network.RunsAt: a span,
 //     or two matched as one duct carried on: pieces of one pathway, spans that carry on within
 //     straightOnDeg of a straight line, as one duct bank drawn as several pathways, and two
 //     pathways of the same ducts that meet at a bend of the duct, as a facilities GIS splits

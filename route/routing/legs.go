@@ -58,7 +58,8 @@ type Leg struct {
 	// it passes beneath in a duct drawn across them (geo.Span.Beneath).
 	Crosses []string
 	// Turns lists, in travel order, the junctions where the route turns from one pathway into
-	// another at a handhole or pull box the plan adds (geo.PassNeedsStructure); not where it
+	// another at a handhole or pull box the plan adds (geo.PassNeedsStructure: never on a pole
+	// or a rack, geo.PassOpen, where it turns with nothing built); not where it
 	// turns into or out of new pathway that joins the network there, whose handhole that is
 	// (items.JoinEnds; layout.turnsListed).
 	Turns []string

@@ -151,11 +151,13 @@ func (s *Site) nearMissesOf(b string, n int) []geo.NearMiss {
 
 // TurnsNeedingStructure lists, by junction ID, the junctions where three or more spans of
 // different pathways meet with no structure and no building: a route that turns there from one
-// pathway into another needs a handhole or pull box built (geo.PassNeedsStructure).
+// pathway into another needs a handhole or pull box built (geo.PassNeedsStructure). Not where
+// only aerial spans meet (a pole) or only tunnels and trays (geo.Meeting.Open): a turn there
+// is made on the pole or the rack, with nothing built.
 func (s *Site) TurnsNeedingStructure() []string {
 	var out []string
 	for _, m := range s.Net.Meetings {
-		if m.Degree < 3 || m.Structure || len(m.Buildings) > 0 {
+		if m.Degree < 3 || m.Structure || m.Open || len(m.Buildings) > 0 {
 			continue
 		}
 		if slices.ContainsFunc(m.Pathways, func(p string) bool { return p != m.Pathways[0] }) {

@@ -90,10 +90,15 @@ func (s *Site) UnreachableServed(hub string, links []Link) []string {
 // is a junction without a structure that is not a building's entrance, where the new pathway
 // joins others or branches, not one where it carries on: inside a run of new construction
 // (InRun), or where two pieces of new pathway of another type meet alone, as a proposed
-// direct-buried pathway drawn as two features (common practice, no published source).
+// direct-buried pathway drawn as two features (common practice, no published source). Nor
+// where only aerial spans meet (a pole) or only tunnels and trays (geo.Meeting.Open): new
+// strand is attached to the pole, new tray or tunnel joined to the old, with no handhole.
 func (s *Site) JoinsNetwork(j string) bool {
 	jn, ok := s.Net.Junction(j)
 	if !ok || jn.Kind != geo.JunctionNode || s.entrance[j] || s.InRun(j) {
+		return false
+	}
+	if m, ok := s.Net.MeetingAt(j); ok && m.Open {
 		return false
 	}
 	k, ok := s.junction[j]
