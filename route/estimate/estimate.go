@@ -576,13 +576,23 @@ func (r *run) pullPlan(i int) legPulls {
 					steps = append(steps, install.Step{Kind: install.KindBend, AngleDeg: turn, RadiusM: rb})
 				}
 			}
-			// The handholes along new construction on this span, as metres into it in travel order.
+			// The handholes along new construction on this span, and the leg's own splice points
+			// to build on it (a reel ends there, so a pull does too: tester 9's finding 3, a
+			// 5.9 km pull through the joins of 3.8 km reels), as metres into it in travel order.
 			var hh []float64
-			for _, at := range r.runHH[sp.ID] {
+			from := func(at float64) {
 				if leg.Steps[j].Reverse {
 					at = sp.LengthM - at
 				}
 				hh = append(hh, at)
+			}
+			for _, at := range r.runHH[sp.ID] {
+				from(at)
+			}
+			for _, p := range leg.Cable.Splices {
+				if p.NoStructure && p.Span == sp.ID {
+					from(p.AtM)
+				}
 			}
 			slices.Sort(hh)
 			segs := s.SegmentsM(sp)
@@ -612,7 +622,9 @@ func (r *run) pullPlan(i int) legPulls {
 					} else if n := len(steps); n > 0 && steps[n-1].Kind == install.KindBend {
 						steps = steps[:n-1] // a bend at a handhole is taken inside it (site.NewRuns)
 					}
-					points = append(points, len(steps))
+					if !atPoint() { // a splice point where a handhole stands already is one point
+						points = append(points, len(steps))
+					}
 					travelM, segM, hh = travelM+part, segM-part, hh[1:]
 				}
 				if segM > 1e-9 {

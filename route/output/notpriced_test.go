@@ -491,3 +491,35 @@ func legJoins(r *route.Result, inStructure bool) map[joinKey][]string {
 	}
 	return out
 }
+
+// TestPullsEndAtSplicePoints: a splice point to build on a duct span is where one reel ends
+// and the next begins, so no pull runs through it: a pull section of the leg ends there
+// (tester 9's finding 3: a 5.9 km pull through the joins of 3.8 km reels, within rating on
+// paper, which no reel could carry). The demo with 250 m reels has one, ENG-LDG's on S-LDG.
+func TestPullsEndAtSplicePoints(t *testing.T) {
+	t.Parallel()
+	s, p := testsite.Demo(t)
+	q := *p
+	q.Design.ReelM = 250
+	r := testplan.SolvePlan(t, s, &q)
+	checked := 0
+	for i, l := range r.Legs {
+		if !l.Feasible {
+			continue
+		}
+		for _, p := range l.Cable.Splices {
+			sp, ok := r.Site.Net.Span(p.Span)
+			if !p.NoStructure || !ok || sp.Type != geo.TypeDuct {
+				continue
+			}
+			at := func(q estimate.PullPoint) bool { return q.Span == p.Span && math.Abs(q.AtM-p.AtM) < 0.05 }
+			if !slices.ContainsFunc(r.Estimate.Pulls, func(ps estimate.PullSection) bool { return ps.Leg == i && (at(ps.From) || at(ps.To)) }) {
+				t.Errorf("%s: no pull ends at its splice point on %s at %.1f m", l.Label(), p.Span, p.AtM)
+			}
+			checked++
+		}
+	}
+	if checked == 0 {
+		t.Fatal("no splice point to build on a duct span: nothing to test")
+	}
+}
