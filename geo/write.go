@@ -39,12 +39,8 @@ func (n *Network) entranceOf(b, id string) (Access, bool) {
 	if id == "" {
 		return n.AccessOf(b)
 	}
-	for _, e := range n.EntrancesOf(b) {
-		if e.ID == id {
-			return e.Access, true
-		}
-	}
-	return Access{}, false
+	e, ok := n.Entry(b, id)
+	return e.Access, ok
 }
 
 // CoordDecimals is how many decimals of a degree the writers keep (1e-7° is about 1 cm).

@@ -42,17 +42,24 @@ func (e *Engine) repairSplices(m *Medium, outM float64) int {
 	return int(math.Ceil(outM/1000*e.margins.RepairSplicesPerKm - 1e-9))
 }
 
+// classMargin is the catalog's margin of medium m's class and its name in reasons; ok is
+// false for copper.
+func (e *Engine) classMargin(m *Medium) (db float64, name string, ok bool) {
+	switch m.Kind {
+	case KindMultimode:
+		return e.margins.MultimodeDB, "the catalog's multimode margin", true
+	case KindSinglemode:
+		return e.margins.SinglemodeDB, "the catalog's single-mode margin", true
+	}
+	return 0, "", false
+}
+
 // requiredMarginDB is the margin a fibre link on medium m with repair repair splices keeps:
 // its class's margin and the repair splices at the design splice loss, or the plan's margin
 // when that is larger (the plan's loss_margin_db is the least margin of every fibre link).
 func (e *Engine) requiredMarginDB(m *Medium, repair int) float64 {
-	var class float64
-	switch m.Kind {
-	case KindMultimode:
-		class = e.margins.MultimodeDB
-	case KindSinglemode:
-		class = e.margins.SinglemodeDB
-	default:
+	class, _, ok := e.classMargin(m)
+	if !ok {
 		return 0
 	}
 	return roundDB(max(class+float64(repair)*e.design.SpliceDB, e.opt.LossMarginDB))
@@ -63,20 +70,13 @@ func (e *Engine) requiredMarginDB(m *Medium, repair int) float64 {
 // splices at the design splice loss ("0.5 dB + 3 repair splices of 0.3 dB"), or the class's
 // margin alone; "" for copper.
 func (e *Engine) marginBasis(m *Medium, repair int) string {
-	var class float64
-	var name string
-	switch m.Kind {
-	case KindMultimode:
-		class, name = e.margins.MultimodeDB, "the catalog's multimode margin"
-	case KindSinglemode:
-		class, name = e.margins.SinglemodeDB, "the catalog's single-mode margin"
-	default:
+	class, name, ok := e.classMargin(m)
+	switch {
+	case !ok:
 		return ""
-	}
-	if e.opt.LossMarginDB > roundDB(class+float64(repair)*e.design.SpliceDB) {
+	case e.opt.LossMarginDB > roundDB(class+float64(repair)*e.design.SpliceDB):
 		return "the plan's loss_margin_db"
-	}
-	if repair == 0 {
+	case repair == 0:
 		return name
 	}
 	splices := "repair splices"

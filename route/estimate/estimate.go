@@ -460,12 +460,8 @@ func (r *run) pullPlan(i int) legPulls {
 	latTo, carryTo := r.lateralEnd(leg.Link.To, leg.EntranceTo, head)
 	// The sections are placed from the served building, whose counted lateral (pulled on its
 	// own, with the first duct, or not at all) comes before the spans, as in the leg's route.
-	lead := 0.0
-	for _, en := range s.Net.EntrancesOf(leg.Link.To) {
-		if en.ID == leg.EntranceTo {
-			lead = en.LateralM
-		}
-	}
+	served, _ := s.Net.Entry(leg.Link.To, leg.EntranceTo)
+	lead := served.LateralM
 	latFrom, carryFrom := r.lateralEnd(leg.Link.From, leg.EntranceFrom, tail)
 	endM := cum[len(cum)-1]
 	name := func(x float64) (at PullPoint, key string) {
