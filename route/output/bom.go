@@ -395,7 +395,7 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 	num("legs", float64(s.Legs), 0, "")
 	num("infeasible legs", float64(s.Infeasible), 0, "")
 	num("route", u.Rounded(lengths.RouteM, 1), 1, u.Length)
-	num("cable bought", cutOf(opt, r).all(), 1, u.Length)
+	num("cable bought", cut.all(), 1, u.Length)
 	num("new trench", u.Rounded(lengths.NewM, 1), 1, u.Length)
 	num("pull sections", float64(s.PullSections), 0, "")
 	num("added pull points", float64(s.AddedPullPoints), 0, "")
@@ -460,9 +460,6 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 			workbook.Int(int64(sch.structures)), workbook.Number(u.M(t.LengthM), 1), workbook.Int(int64(sch.reels)),
 			workbook.Int(int64(t.Joins)), workbook.Text(ReelsText(opt, t.ReelsM)), workbook.Text(SplicesText(opt, t.Splices)),
 			workbook.Int(int64(pullsOf[i])), workbook.Number(u.N(hi), 1), workbook.Number(u.N(rated), 1)}
-		if len(takeoff) != len(takeoffCols) {
-			panic(fmt.Sprintf("output: links sheet: %d takeoff cells for %d columns", len(takeoff), len(takeoffCols)))
-		}
 		cells = append(append(cells, takeoff...), workbook.Cents(l.Cost.TotalCents()), workbook.Bool(true), workbook.Text(InUnits(opt, l.Reason)))
 		links.Append(append(append(cells, passage(r, l)...), sch.sheetCells(u)...)...)
 	}
