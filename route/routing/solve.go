@@ -156,15 +156,19 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 	if err != nil {
 		return nil, err
 	}
-	if beyondReach(sol, legs) {
+	at := map[string]bool{} // the handholes at junctions of every plan measured
+	for mend := 0; mend < maxMends && beyondReach(sol, legs); mend++ {
 		// Legs the optimizer kept within reach that the rules reject: the slack loops they
 		// leave in handholes other routes build (at junctions they pass straight through) are
 		// in their channels but not in the search's reach. The plan's routes that stay within
 		// reach with those loops counted (passLoops) are kept and the others placed again
 		// (optimize.Settings.PlaceOnly); that plan stands when it leaves fewer legs infeasible.
+		// Placed again, a leg may pass or build other handholes: a second mend counts the
+		// loops in those of both plans.
+		maps.Copy(at, handholeJunctions(r.Handholes))
 		again := opt
 		again.Start, again.PlaceOnly = optimize.StartFrom(sol), true
-		sol2, _, _, err := solve(ctx, s, lay, passLoops(s, m.design, lay, prob, handholeJunctions(r.Handholes)), again, "")
+		sol2, _, _, err := solve(ctx, s, lay, passLoops(s, m.design, lay, prob, at), again, "")
 		if err != nil {
 			return nil, optimizerErr(ctx, err)
 		}
@@ -173,9 +177,10 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 		if err != nil {
 			return nil, err
 		}
-		if infeasibleLegs(r2.Legs) < infeasibleLegs(r.Legs) {
-			*r, sol, legs, unpaid = r2, sol2, legs2, unpaid2
+		if infeasibleLegs(r2.Legs) >= infeasibleLegs(r.Legs) {
+			break
 		}
+		*r, sol, legs, unpaid = r2, sol2, legs2, unpaid2
 	}
 	// The passes through handholes at junctions that the optimizer's edges price in part or not
 	// at all, priced here on the routes it returned (passGapCents).
@@ -405,6 +410,10 @@ func handholesOf(s *site.Site, lay *layout, prob *optimize.Problem, sol *optimiz
 	}
 	return hs, unpaid
 }
+
+// maxMends bounds SolveFrom's mends of a plan whose legs the rules reject beyond the reach
+// the search kept them within (passLoops).
+const maxMends = 2
 
 // maxHandholeRounds bounds SolveFrom's rounds of measuring the legs against the handholes
 // built at junctions (settleHandholes): the second agrees unless a leg that a tap built for
