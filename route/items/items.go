@@ -315,16 +315,19 @@ func PullPoint(s *site.Site, j string) bool { return s.IsStructure(j) }
 // (routing's turnShare). A route that turns into or out of it there lists no turn
 // (routing.Leg.Turns).
 func JoinEnds(s *site.Site, sp *geo.Span) float64 {
-	if sp.Status != geo.StatusProposed {
-		return 0
-	}
 	n := 0.0
 	for _, j := range []string{sp.From, sp.To} {
-		if s.JoinsNetwork(j) {
+		if JoinEnd(s, sp, j) {
 			n++
 		}
 	}
 	return n
+}
+
+// JoinEnd reports whether span sp's end at junction j is one of JoinEnds: a new span's end
+// where it joins the network.
+func JoinEnd(s *site.Site, sp *geo.Span, j string) bool {
+	return sp.Status == geo.StatusProposed && s.JoinsNetwork(j)
 }
 
 // Entered reports whether a crew enters junction j to pass a cable through it: a maintenance

@@ -394,13 +394,20 @@ func (l *layout) isJoin(n int) bool { return n < len(l.joinNode) && l.joinNode[n
 // street's duct straight on into the new span would pay half, and one turning into the run a
 // whole share on the turn edge besides; the plan's evaluation prices the rest (passGapCents).
 func (l *layout) joinEnds(s *site.Site, i int) float64 {
-	n := items.JoinEnds(s, &s.Net.Spans[i])
-	for _, c := range l.carriedEnd[i] {
-		if c {
-			n--
+	n := 0.0
+	for k := range 2 {
+		if l.joinEnd(s, i, k) {
+			n++
 		}
 	}
 	return n
+}
+
+// joinEnd reports whether end k (0 From, 1 To) of span i is one joinEnds counts: a new span's
+// end where it joins the network (items.JoinEnds), not in a run carried on (carriedEnd).
+func (l *layout) joinEnd(s *site.Site, i, k int) bool {
+	sp := &s.Net.Spans[i]
+	return items.JoinEnd(s, sp, [2]string{sp.From, sp.To}[k]) && !l.carriedEnd[i][k]
 }
 
 // Crew shares at a junction split for turns where new pathway joins (joinNode). A route along

@@ -623,8 +623,7 @@ func passLoops(s *site.Site, d plan.Design, lay *layout, prob *optimize.Problem,
 	for i := range s.Net.Spans {
 		sp := &s.Net.Spans[i]
 		for k, j := range [2]string{sp.From, sp.To} {
-			counted := sp.Status == geo.StatusProposed && s.JoinsNetwork(j) && !lay.carriedEnd[i][k]
-			if underground[j] && !counted {
+			if underground[j] && !lay.joinEnd(s, i, k) {
 				p.Edges[i].ReachM += half
 			}
 		}

@@ -280,11 +280,11 @@ func passesOf(s *site.Site, d plan.Design, leg *Leg, built builtOn) ([]SplicePoi
 			}
 			hh[i] = m
 		}
-		start := at
-		spans = append(spans, spanOnChannel{span: &sp, fromEnd: s.Net.EndName(sp.From), reverse: st.Reverse, startM: start, loopsAt: hh})
+		start, fromEnd := at, s.Net.EndName(sp.From)
+		spans = append(spans, spanOnChannel{span: &sp, fromEnd: fromEnd, reverse: st.Reverse, startM: start, loopsAt: hh})
 		for i, m := range hh {
 			at = start + m + float64(i)*d.SlackLoopStructureM
-			pass(SplicePoint{Span: sp.ID, AtM: offs[i], End: s.Net.EndName(sp.From), Added: true})
+			pass(SplicePoint{Span: sp.ID, AtM: offs[i], End: fromEnd, Added: true})
 		}
 		at = start + sp.LengthM + float64(len(hh))*d.SlackLoopStructureM
 	}

@@ -226,23 +226,10 @@ func Box(id, role string, x, y float64) string {
 
 // Pathway is a pathway of type typ through points of the pull grid (x, y in metres), as a
 // GeoJSON feature.
-func Pathway(id, typ string, pts ...float64) string {
-	var c []string
-	for i := 0; i+1 < len(pts); i += 2 {
-		c = append(c, fmt.Sprintf("[%.7f,%.7f]", X(pts[i]), Y(pts[i+1])))
-	}
-	return fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":%q,"type":%q},"geometry":{"type":"LineString","coordinates":[%s]}}`,
-		id, typ, strings.Join(c, ","))
-}
+func Pathway(id, typ string, pts ...float64) string { return fanWay(id, typ, "", fanLine(pts...)) }
 
 func PullCampus(ductMM float64, spare int) string {
-	line := func(pts ...float64) string {
-		var s []string
-		for i := 0; i+1 < len(pts); i += 2 {
-			s = append(s, fmt.Sprintf("[%.7f,%.7f]", X(pts[i]), Y(pts[i+1])))
-		}
-		return "[" + strings.Join(s, ",") + "]"
-	}
+	line := fanLine
 	f := []string{
 		Box("A", "mc", 10, 25), Box("B", "", 210, 125), Box("C", "", 300, 25),
 		fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":"D","type":"duct","spare_ducts":%d,"duct_mm":%g},"geometry":{"type":"LineString","coordinates":%s}}`,
