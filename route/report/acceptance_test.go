@@ -6,6 +6,7 @@ import (
 	"strings"
 	"testing"
 
+	"spanwright/media"
 	"spanwright/route/internal/testplan"
 )
 
@@ -17,7 +18,9 @@ import (
 func TestPlanAcceptance(t *testing.T) {
 	t.Parallel()
 	r, x := testplan.DemoOperatingLoss(t)
-	x.FieldLimitDB, x.CablingLimitDB, x.FieldLimitBy, x.AttenuatorDB = 2.6, 3.087, "10GBASE-SR", 5
+	// The leg's own application sets it here (its name borrowed: the figures are 10GBASE-SR's).
+	app := r.Legs[0].Application
+	x.FieldLimitDB, x.CablingLimitDB, x.FieldLimitBy, x.AttenuatorDB = 2.6, 3.087, app, 5
 	b, err := Plan(context.Background(), r, Options{})
 	if err != nil {
 		t.Fatal(err)
@@ -26,12 +29,17 @@ func TestPlanAcceptance(t *testing.T) {
 	for _, want := range []string{
 		// The loss holds the attenuator, the field limit not: the cell says so (tester 9's finding 2).
 		`<span class="small field">≤ 2.60 without the 5 dB attenuator</span>`,
-		`Field test limit at ` + strconv.Itoa(x.WavelengthNM) + ` nm 2.60 dB, set by 10GBASE-SR (ANSI/TIA-568.3-D link limit 3.09 dB). The loss includes a 5 dB fixed attenuator at each receiver; the link is tested without it.`,
+		`Field test limit at ` + strconv.Itoa(x.WavelengthNM) + ` nm 2.60 dB, set by ` + app + ` (ANSI/TIA-568.3-D link limit 3.09 dB). The loss includes a 5 dB fixed attenuator at each receiver; the link is tested without it.`,
 		`<span class="small">field limit</span>`,
 	} {
 		if !strings.Contains(html, want) {
 			t.Errorf("report lacks %q", want)
 		}
+	}
+	// Set by another application than the leg's: the one its future rate plans for (tester 9's
+	// finding 4: "set by 10GBASE-SR" under a 1000BASE-SX leg).
+	if got := acceptanceOf([]media.Loss{{WavelengthNM: 850, FieldLimitDB: 2.6, CablingLimitDB: 3.087, FieldLimitBy: "10GBASE-SR"}}, "1000BASE-SX"); !strings.Contains(got, "set by 10GBASE-SR, the application of its future rate") {
+		t.Errorf("future rate's limit: %q", got)
 	}
 	// Every other leg: limited by ANSI/TIA-568.3-D, no attenuator, so no such line.
 	if n := strings.Count(html, `class="small acceptance"`); n != 1 {

@@ -813,7 +813,7 @@ func legRowOf(r *route.Result, l *routing.Leg, opt Options, med map[string]mediu
 		}
 		row.Losses = append(row.Losses, c)
 	}
-	row.Acceptance = acceptanceOf(l.Losses)
+	row.Acceptance = acceptanceOf(l.Losses, l.Application)
 	var worst *media.Loss
 	for k := range l.Losses {
 		x := &l.Losses[k]
@@ -845,13 +845,19 @@ func legRowOf(r *route.Result, l *routing.Leg, opt Options, med map[string]mediu
 // acceptanceOf is the links table's line on a leg's acceptance: the wavelengths whose field
 // test limit an application sets below the ANSI/TIA-568.3-D link limit, with both figures,
 // and the fixed attenuator at each receiver that the loss includes; "" when there is neither.
-func acceptanceOf(losses []media.Loss) string {
+func acceptanceOf(losses []media.Loss, app string) string {
 	var parts []string
 	att := 0.0
 	for _, x := range losses {
 		if x.FieldLimitBy != "" && x.FieldLimitBy != media.FieldLimitByCabling {
+			by := x.FieldLimitBy
+			if by != app {
+				// Not the leg's own application: the one its future rate plans for (tester 9's
+				// finding 4).
+				by += ", the application of its future rate"
+			}
 			parts = append(parts, fmt.Sprintf("at %d nm %s dB, set by %s (ANSI/TIA-568.3-D link limit %s dB)",
-				x.WavelengthNM, dB(x.FieldLimitDB), x.FieldLimitBy, dB(x.CablingLimitDB)))
+				x.WavelengthNM, dB(x.FieldLimitDB), by, dB(x.CablingLimitDB)))
 		}
 		if x.Operating {
 			att = max(att, x.AttenuatorDB)
