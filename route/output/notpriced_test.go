@@ -457,9 +457,15 @@ func TestJoinsInStructuresTable(t *testing.T) {
 // reelDemo is the demo planned with reels of 400 m, which joins cables mid-span.
 func reelDemo(t *testing.T) *route.Result {
 	t.Helper()
+	return reelDemoOf(t, 400)
+}
+
+// reelDemoOf is the demo planned with reels of reelM metres.
+func reelDemoOf(t *testing.T, reelM float64) *route.Result {
+	t.Helper()
 	s, p := testsite.Demo(t)
 	q := *p
-	q.Design.ReelM = 400
+	q.Design.ReelM = reelM
 	return testplan.SolvePlan(t, s, &q)
 }
 
@@ -498,10 +504,7 @@ func legJoins(r *route.Result, inStructure bool) map[joinKey][]string {
 // paper, which no reel could carry). The demo with 250 m reels has one, ENG-LDG's on S-LDG.
 func TestPullsEndAtSplicePoints(t *testing.T) {
 	t.Parallel()
-	s, p := testsite.Demo(t)
-	q := *p
-	q.Design.ReelM = 250
-	r := testplan.SolvePlan(t, s, &q)
+	r := reelDemoOf(t, 250)
 	checked := 0
 	for i, l := range r.Legs {
 		if !l.Feasible {

@@ -748,22 +748,20 @@ func structureKeys(sts []output.Structure, p *projection, taken []xy, length fun
 func purposeWords(purpose string) string {
 	parts := strings.Split(purpose, ", ")
 	for i, part := range parts {
-		switch part {
-		case output.PurposeJoin:
-			parts[i] = "where new pathway joins the network"
-		case output.PurposeTap:
-			parts[i] = "where a lateral taps a duct"
-		case output.PurposeTurn:
-			parts[i] = "where a route turns between pathways"
-		case output.PurposeRun:
-			parts[i] = "along new construction (handhole spacing or bend budget)"
-		case output.PurposePull:
-			parts[i] = "an intermediate pull point"
-		case output.PurposeSplice:
-			parts[i] = "a mid-span join with no structure within its reel's reach"
-		case output.PurposeSpliceClosure:
-			parts[i] = "a mid-span join's splice closure"
+		if w, ok := purposeText[part]; ok {
+			parts[i] = w
 		}
 	}
 	return strings.Join(parts, "; ")
+}
+
+// purposeText is each purpose of a structure to build in words (purposeWords).
+var purposeText = map[string]string{
+	output.PurposeJoin:          "where new pathway joins the network",
+	output.PurposeTap:           "where a lateral taps a duct",
+	output.PurposeTurn:          "where a route turns between pathways",
+	output.PurposeRun:           "along new construction (handhole spacing or bend budget)",
+	output.PurposePull:          "an intermediate pull point",
+	output.PurposeSplice:        "a mid-span join with no structure within its reel's reach",
+	output.PurposeSpliceClosure: "a mid-span join's splice closure",
 }
