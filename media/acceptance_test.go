@@ -142,5 +142,20 @@ func TestMarginBasis(t *testing.T) {
 		if got := tc.e.marginBasis(tc.m, tc.n); got != tc.want {
 			t.Errorf("%s: got %q, want %q", tc.name, got, tc.want)
 		}
+		// The words the rules read come from NewEngine's table where it has them (basisOf).
+		if got := tc.e.basisOf(tc.m, tc.n); got != tc.want {
+			t.Errorf("%s: basisOf %q, want %q", tc.name, got, tc.want)
+		}
+	}
+	// Every medium and count of repair splices, with and without a plan floor: the table
+	// says what marginBasis says.
+	for _, eng := range []*Engine{e, floor} {
+		for _, m := range c.Media {
+			for n := range 60 {
+				if got, want := eng.basisOf(m, n), eng.marginBasis(m, n); got != want {
+					t.Errorf("%s, %d repair splices: basisOf %q, marginBasis %q", m.ID, n, got, want)
+				}
+			}
+		}
 	}
 }

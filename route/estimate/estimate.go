@@ -118,6 +118,9 @@ type PullPoint struct {
 	ID   string  // structure, junction or building ID; "" for a handhole the plan adds
 	Span string  // the span an added handhole stands on; "" for an ID
 	AtM  float64 // where on Span, in metres from its from end
+	// Splice marks the leg's splice point to build there (routing.SplicePoint.NoStructure):
+	// a reel ends there, so the pull does (not a handhole the pulling plan adds).
+	Splice bool
 	// End names Span's from end, which AtM counts from (geo.Network.EndName; on a counted
 	// lateral, its building).
 	End string
@@ -127,8 +130,11 @@ type PullPoint struct {
 // the END end" (routing.AlongText) with the offset written by length (the output's units; a
 // number and its unit).
 func (p PullPoint) Text(length func(m float64) string) string {
-	if p.Span == "" {
+	switch {
+	case p.Span == "":
 		return p.ID
+	case p.Splice:
+		return "splice point to build " + routing.AlongText(p.Span, p.End, p.AtM, length)
 	}
 	return "new handhole " + routing.AlongText(p.Span, p.End, p.AtM, length)
 }
@@ -494,7 +500,11 @@ func (r *run) pullPlan(i int) legPulls {
 		if leg.Steps[j].Reverse {
 			off = spans[j].LengthM - off
 		}
-		return PullPoint{Span: spans[j].ID, AtM: off, End: s.Net.EndName(spans[j].From)}, fmt.Sprintf("S:%s@%.0f", spans[j].ID, off)
+		at = PullPoint{Span: spans[j].ID, AtM: off, End: s.Net.EndName(spans[j].From)}
+		at.Splice = slices.ContainsFunc(leg.Cable.Splices, func(p routing.SplicePoint) bool {
+			return p.NoStructure && p.Span == at.Span && math.Abs(p.AtM-off) < 0.01
+		})
+		return at, fmt.Sprintf("S:%s@%.0f", spans[j].ID, off)
 	}
 	seq := 0
 	// lateral pulls the counted lateral of entrance en, from building b to junction at, as
