@@ -8,7 +8,6 @@ import (
 	"testing"
 
 	"spanwright/route/internal/campusgen"
-	"spanwright/route/output"
 )
 
 // piecesAt returns fs with one street drawn as two features (ids + "-a" and "-b", the same
@@ -121,20 +120,6 @@ func TestOverlappingPiecesPlanAsMeeting(t *testing.T) {
 		if warned != 1 {
 			t.Errorf("%s: %d warnings of the overlap, want 1", id, warned)
 		}
-		sa, sb := output.Summarize(a), output.Summarize(b)
-		if d := sa.TotalCents - sb.TotalCents; d > int64(len(a.Legs)) || -d > int64(len(a.Legs)) ||
-			sa.PullSections != sb.PullSections || sa.TurnHandholes != sb.TurnHandholes || sa.RunHandholes != sb.RunHandholes {
-			t.Errorf("%s: total %d → %d, pull sections %d → %d, turn handholes %d → %d, run handholes %d → %d", id,
-				sa.TotalCents, sb.TotalCents, sa.PullSections, sb.PullSections, sa.TurnHandholes, sb.TurnHandholes, sa.RunHandholes, sb.RunHandholes)
-		}
-		if d := diffVerdicts(legDigest(a), legDigest(b)); len(d) > 0 {
-			t.Errorf("%s: changed %d legs: %s", id, len(d), strings.Join(d, "; "))
-			return
-		}
-		for i := range a.Legs {
-			if d := a.Legs[i].Cost.TotalCents() - b.Legs[i].Cost.TotalCents(); d > 2 || d < -2 {
-				t.Errorf("%s: leg %s costs %d → %d cents", id, legKey(&a.Legs[i]), a.Legs[i].Cost.TotalCents(), b.Legs[i].Cost.TotalCents())
-			}
-		}
+		samePlan(t, id, a, b)
 	})
 }

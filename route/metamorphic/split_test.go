@@ -243,21 +243,7 @@ func TestSplitWhereOthersJoin(t *testing.T) {
 				continue
 			}
 			_, a := outputs(t, scBent)
-			sa, sb := output.Summarize(a), output.Summarize(b)
-			if d := sa.TotalCents - sb.TotalCents; d > int64(len(a.Legs)) || -d > int64(len(a.Legs)) ||
-				sa.PullSections != sb.PullSections || sa.TurnHandholes != sb.TurnHandholes || sa.RunHandholes != sb.RunHandholes {
-				t.Errorf("%s: total %d → %d, pull sections %d → %d, turn handholes %d → %d, run handholes %d → %d", what,
-					sa.TotalCents, sb.TotalCents, sa.PullSections, sb.PullSections, sa.TurnHandholes, sb.TurnHandholes, sa.RunHandholes, sb.RunHandholes)
-			}
-			if d := diffVerdicts(legDigest(a), legDigest(b)); len(d) > 0 {
-				t.Errorf("%s: changed %d legs: %s", what, len(d), strings.Join(d, "; "))
-				continue
-			}
-			for i := range a.Legs {
-				if d := a.Legs[i].Cost.TotalCents() - b.Legs[i].Cost.TotalCents(); d > 2 || d < -2 {
-					t.Errorf("%s: leg %s costs %d → %d cents", what, legKey(&a.Legs[i]), a.Legs[i].Cost.TotalCents(), b.Legs[i].Cost.TotalCents())
-				}
-			}
+			samePlan(t, what, a, b)
 		}
 	})
 }
@@ -298,6 +284,28 @@ func splitAlone(t *testing.T, what string, res *route.Result, b campusgen.Featur
 	for i := range res.Legs {
 		if slices.Contains(res.Legs[i].Turns, j) {
 			t.Errorf("%s: leg %s turns at %s", what, legKey(&res.Legs[i]), j)
+		}
+	}
+}
+
+// samePlan holds plan b to plan a of the same campus drawn otherwise (what names the change):
+// the same total within a cent a leg, the same pull sections and handholes, the same legs'
+// verdicts (legDigest) and each leg's cost within 2 cents.
+func samePlan(t *testing.T, what string, a, b *route.Result) {
+	t.Helper()
+	sa, sb := output.Summarize(a), output.Summarize(b)
+	if d := sa.TotalCents - sb.TotalCents; d > int64(len(a.Legs)) || -d > int64(len(a.Legs)) ||
+		sa.PullSections != sb.PullSections || sa.TurnHandholes != sb.TurnHandholes || sa.RunHandholes != sb.RunHandholes {
+		t.Errorf("%s: total %d → %d, pull sections %d → %d, turn handholes %d → %d, run handholes %d → %d", what,
+			sa.TotalCents, sb.TotalCents, sa.PullSections, sb.PullSections, sa.TurnHandholes, sb.TurnHandholes, sa.RunHandholes, sb.RunHandholes)
+	}
+	if d := diffVerdicts(legDigest(a), legDigest(b)); len(d) > 0 {
+		t.Errorf("%s: changed %d legs: %s", what, len(d), strings.Join(d, "; "))
+		return
+	}
+	for i := range a.Legs {
+		if d := a.Legs[i].Cost.TotalCents() - b.Legs[i].Cost.TotalCents(); d > 2 || d < -2 {
+			t.Errorf("%s: leg %s costs %d → %d cents", what, legKey(&a.Legs[i]), a.Legs[i].Cost.TotalCents(), b.Legs[i].Cost.TotalCents())
 		}
 	}
 }

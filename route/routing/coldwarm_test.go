@@ -64,19 +64,25 @@ func TestColdNotAboveWarm(t *testing.T) {
 // generatedProblem is the optimizer's problem of generatedSite's plan.
 func generatedProblem(t *testing.T, s *site.Site, p *plan.Plan) *optimize.Problem {
 	t.Helper()
-	eng, err := plan.Engine(p)
-	if err != nil {
-		t.Fatal(err)
-	}
-	m := NewModel(eng, p.Design)
-	hub, _ := s.Hub(p)
-	links, _, errs := s.Links(p, hub)
-	if len(errs) > 0 {
-		t.Fatal(errs)
-	}
+	m, links := generatedLinks(t, s, p)
 	prob, _, _, err := problem(s, m, links, m.runsOf(s))
 	if err != nil {
 		t.Fatal(err)
 	}
 	return prob
+}
+
+// generatedLinks is the model and the links of generatedSite's plan.
+func generatedLinks(t *testing.T, s *site.Site, p *plan.Plan) (*Model, []site.Link) {
+	t.Helper()
+	eng, err := plan.Engine(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	hub, _ := s.Hub(p)
+	links, _, errs := s.Links(p, hub)
+	if len(errs) > 0 {
+		t.Fatal(errs)
+	}
+	return NewModel(eng, p.Design), links
 }

@@ -161,16 +161,7 @@ func generatedSite(t *testing.T, n int) (*site.Site, *plan.Plan) {
 func TestStartSameProblem(t *testing.T) {
 	t.Parallel()
 	s, p := generatedSite(t, 60)
-	eng, err := plan.Engine(p)
-	if err != nil {
-		t.Fatal(err)
-	}
-	m := NewModel(eng, p.Design)
-	hub, _ := s.Hub(p)
-	links, _, errs := s.Links(p, hub)
-	if len(errs) > 0 {
-		t.Fatal(errs)
-	}
+	m, links := generatedLinks(t, s, p)
 	ctx := context.Background()
 	cold, err := Solve(ctx, s, m, links)
 	if err != nil {
