@@ -10,7 +10,7 @@ import (
 	"spanwright/geo"
 	"spanwright/route"
 	"spanwright/route/internal/testplan"
-	"spanwright/route/internal/testsite"
+	"spanwright/route/plan"
 	"spanwright/route/routing"
 )
 
@@ -100,10 +100,9 @@ func TestBuriedSpansLaidRated(t *testing.T) {
 // where it used to name only the 15 m rule of NFPA 70 770.48.
 func TestReelsBuriedReason(t *testing.T) {
 	t.Parallel()
-	s, p := testsite.Demo(t)
-	q := *p
-	q.Design.ReelM, q.Design.PullMaxM = 400, 200
-	r := testplan.SolvePlan(t, s, &q)
+	r := testplan.DemoDesign(t, func(d *plan.Design) {
+		d.ReelM, d.PullMaxM = 400, 200
+	})
 	var l *routing.Leg
 	for i := range r.Legs {
 		if r.Legs[i].Link.ID == "TWR-OBS" {

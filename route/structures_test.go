@@ -5,7 +5,7 @@ import (
 	"testing"
 
 	"spanwright/route/internal/testplan"
-	"spanwright/route/internal/testsite"
+	"spanwright/route/plan"
 )
 
 // TestStructuresPassedOneCount plans the demo with 400 m reels (mid-span joins) and holds
@@ -14,11 +14,10 @@ import (
 // crew entries, cable end preparation, labelling and enclosure installation.
 func TestStructuresPassedOneCount(t *testing.T) {
 	t.Parallel()
-	s, p0 := testsite.Demo(t)
-	p := *p0
-	p.Design.ReelM = 400
-	r := testplan.SolvePlan(t, s, &p)
-	d := p.Design
+	r := testplan.DemoDesign(t, func(d *plan.Design) {
+		d.ReelM = 400
+	})
+	d := r.Plan.Design
 	var entries, ends, enclosures, joins, transitions int
 	for i := range r.Legs {
 		l := &r.Legs[i]
@@ -27,8 +26,8 @@ func TestStructuresPassedOneCount(t *testing.T) {
 		}
 		c := l.Cable
 		existing := 0
-		for _, j := range s.JunctionsOf(l.Steps) {
-			if s.LoopStructure(j) {
+		for _, j := range r.Site.JunctionsOf(l.Steps) {
+			if r.Site.LoopStructure(j) {
 				existing++
 			}
 		}

@@ -4,7 +4,7 @@ import (
 	"testing"
 
 	"spanwright/route/internal/testplan"
-	"spanwright/route/internal/testsite"
+	"spanwright/route/plan"
 )
 
 // TestTransitionReelsOutsideOnly plans the demo with 1,400 m reels: a leg with an entrance
@@ -15,10 +15,9 @@ import (
 // 4 F7: it was cut into two reels over the whole cable, risers included).
 func TestTransitionReelsOutsideOnly(t *testing.T) {
 	t.Parallel()
-	s, p0 := testsite.Demo(t)
-	p := *p0
-	p.Design.ReelM = 1400
-	r := testplan.SolvePlan(t, s, &p)
+	r := testplan.DemoDesign(t, func(d *plan.Design) {
+		d.ReelM = 1400
+	})
 	checked := 0
 	for i := range r.Legs {
 		l := &r.Legs[i]
@@ -34,13 +33,13 @@ func TestTransitionReelsOutsideOnly(t *testing.T) {
 		if sum != out || len(c.ReelsM) != c.Joins+1 {
 			t.Errorf("%s %s: reels %v for %.0f m of outside cable, %d joins", l.Link.ID, l.Name, c.ReelsM, out, c.Joins)
 		}
-		if out <= p.Design.ReelM && c.Joins != 0 {
-			t.Errorf("%s %s: %.0f m of outside cable fits one %.0f m reel, yet %d joins at %v", l.Link.ID, l.Name, out, p.Design.ReelM, c.Joins, c.Splices)
+		if out <= r.Plan.Design.ReelM && c.Joins != 0 {
+			t.Errorf("%s %s: %.0f m of outside cable fits one %.0f m reel, yet %d joins at %v", l.Link.ID, l.Name, out, r.Plan.Design.ReelM, c.Joins, c.Splices)
 		}
 		if l.Link.ID == "TWR-BRN" {
 			checked++
-			if c.Joins != 0 || len(c.ReelsM) != 1 || c.LengthM <= p.Design.ReelM {
-				t.Errorf("TWR-BRN: %d joins, reels %v, %.0f m bought in all: want one reel of its outside cable, the whole over %.0f m", c.Joins, c.ReelsM, c.LengthM, p.Design.ReelM)
+			if c.Joins != 0 || len(c.ReelsM) != 1 || c.LengthM <= r.Plan.Design.ReelM {
+				t.Errorf("TWR-BRN: %d joins, reels %v, %.0f m bought in all: want one reel of its outside cable, the whole over %.0f m", c.Joins, c.ReelsM, c.LengthM, r.Plan.Design.ReelM)
 			}
 		}
 	}

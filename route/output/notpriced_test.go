@@ -463,10 +463,7 @@ func reelDemo(t *testing.T) *route.Result {
 // reelDemoOf is the demo planned with reels of reelM metres.
 func reelDemoOf(t *testing.T, reelM float64) *route.Result {
 	t.Helper()
-	s, p := testsite.Demo(t)
-	q := *p
-	q.Design.ReelM = reelM
-	return testplan.SolvePlan(t, s, &q)
+	return testplan.DemoDesign(t, func(d *plan.Design) { d.ReelM = reelM })
 }
 
 // joinKey is a place of a mid-span join: a structure by id, or a span and decimetres from its

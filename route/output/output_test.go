@@ -293,10 +293,9 @@ func TestSafetyLine(t *testing.T) {
 // 1.30/1.06 in; no bill line of the imperial bom.csv keeps millimetres.
 func TestImperialInnerduct(t *testing.T) {
 	t.Parallel()
-	s, p := testsite.Demo(t)
-	q := *p
-	q.Design.InnerductODMM, q.Design.InnerductIDMM = 33, 27
-	r := testplan.SolvePlan(t, s, &q)
+	r := testplan.DemoDesign(t, func(d *plan.Design) {
+		d.InnerductODMM, d.InnerductIDMM = 33, 27
+	})
 	for _, c := range []struct {
 		opt  WriteOptions
 		want string

@@ -14,7 +14,7 @@ import (
 	"spanwright/media"
 	"spanwright/route"
 	"spanwright/route/internal/testplan"
-	"spanwright/route/internal/testsite"
+	"spanwright/route/plan"
 	"spanwright/route/routing"
 )
 
@@ -220,10 +220,9 @@ func piecesAddUpToBill(t *testing.T, r *route.Result, opt WriteOptions) {
 // cut_length_m), not to the cable bought, whose inside pieces are cut from other reels.
 func TestOutsideReels(t *testing.T) {
 	t.Parallel()
-	s, p := testsite.Demo(t)
-	q := *p
-	q.Design.ReelM = 400
-	r := testplan.SolvePlan(t, s, &q)
+	r := testplan.DemoDesign(t, func(d *plan.Design) {
+		d.ReelM = 400
+	})
 	both := 0
 	for i := range r.Legs {
 		l := &r.Legs[i]

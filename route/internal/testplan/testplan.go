@@ -237,3 +237,12 @@ func DemoBookWith(tb testing.TB, extra string) string {
 	}
 	return path
 }
+
+// DemoDesign plans the demo campus and plan with its design edited by edit.
+func DemoDesign(tb testing.TB, edit func(d *plan.Design)) *route.Result {
+	tb.Helper()
+	s, p := testsite.Demo(tb)
+	q := *p
+	edit(&q.Design)
+	return SolvePlan(tb, s, &q)
+}
