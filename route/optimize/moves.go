@@ -665,8 +665,8 @@ func (sv *solver) estimate(d int) int64 {
 			cur += we
 		}
 	}
-	nb := sv.best(d)
-	defer sv.endSelf() // end the in-place view
+	nb := sv.bestBelow(d, cur) // a route that saves nothing is not wanted
+	defer sv.endSelf()         // end the in-place view
 	if nb.opt < 0 || (dm.Diverse && len(nb.legs) < len(c.legs)) {
 		return 0
 	}

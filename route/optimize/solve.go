@@ -623,15 +623,18 @@ const (
 )
 
 // route returns the best single path for demand d with option o against the current state:
-// its hops (free end → anchor), marginal weight and whether one within reach exists.
-func (sv *solver) route(d, o int) ([]Hop, int64, bool) {
+// its hops (free end → anchor), marginal weight and whether one within reach exists. When the
+// cheapest path is too long, route returns it with tooLong set and ok false, without the
+// search within reach (routeWithin), which costs tens of searches: its weight bounds every
+// path within reach from below, so that best may rule the option out first.
+func (sv *solver) route(d, o int) (hops []Hop, weight int64, ok, tooLong bool) {
 	s, t := sv.from[d], sv.to[d]
 	prof := sv.optProf[d][o]
 	bd := sv.bound(t, prof)
 	tr := bd.t
 	limit := sv.reach[d][o]
 	if lt := sv.lenTreeOf(t, sv.profLen[prof]); tr.dist[s] < 0 || lt.dist[s] > limit {
-		return nil, 0, false
+		return nil, 0, false, false
 	}
 	w := sv.weightFor(d, o)
 	base := sv.profBase[prof]
@@ -650,16 +653,26 @@ func (sv *solver) route(d, o int) ([]Hop, int64, bool) {
 		}
 	}
 	if exact {
-		return tr.pathFrom(sv.net, s), tr.dist[s], true
+		return tr.pathFrom(sv.net, s), tr.dist[s], true, false
 	}
-	var hops []Hop
 	if !sv.srch.run(s, t, w, treeH(tr)) {
-		return nil, 0, false
+		return nil, 0, false, false
 	}
 	hops = sv.srch.pathTo(t)
 	if sv.srch.lenMM(t) <= limit {
-		return hops, sv.srch.dist(t), true
+		return hops, sv.srch.dist(t), true, false
 	}
+	return hops, sv.srch.dist(t), false, true
+}
+
+// routeWithin is route's search within reach for demand d with option o, whose cheapest path
+// cheapest (from route) is too long: LARAC's path, then the exact label search below its cost.
+func (sv *solver) routeWithin(d, o int, cheapest []Hop) ([]Hop, int64, bool) {
+	s, t := sv.from[d], sv.to[d]
+	prof := sv.optProf[d][o]
+	tr := sv.bound(t, prof).t
+	limit := sv.reach[d][o]
+	w := sv.weightFor(d, o)
 	lt := sv.lenTreeOf(t, sv.profLen[prof])
 	if lt.dist[s] > limit {
 		return nil, 0, false
@@ -674,7 +687,7 @@ func (sv *solver) route(d, o int) ([]Hop, int64, bool) {
 		return nil, 0, false
 	}
 	pd := sv.srch.pathTo(t)
-	pl := larac(sv.net, sv.rc, s, t, limit, w, tr.dist, lt.dist, hops, pd)
+	pl := larac(sv.net, sv.rc, s, t, limit, w, tr.dist, lt.dist, cheapest, pd)
 	ub, _ := pathEval(sv.net, pl, w)
 	if ex, ok, _ := labelSearch(sv.net, sv.rc, s, t, limit, w, tr.dist, lt.dist, ub); ok {
 		pl = ex
@@ -702,7 +715,13 @@ func (a cand) less(b cand) bool {
 }
 
 // best returns demand d's best choice against the current state (which must not contain d).
-func (sv *solver) best(d int) choice {
+func (sv *solver) best(d int) choice { return sv.bestBelow(d, math.MaxInt64) }
+
+// bestBelow is best, for a caller that wants only a choice whose objective (cost objective) is
+// below below: an option whose lower bound reaches it is not searched, and the result is opt
+// −1 when no option is below it. An estimate that asks what a demand would save needs no route
+// that saves nothing.
+func (sv *solver) bestBelow(d int, below int64) choice {
 	if sv.invalid[d] != "" {
 		return choice{opt: -1}
 	}
@@ -768,7 +787,9 @@ func (sv *solver) best(d int) choice {
 		}
 		return bestCh
 	}
-	pruned := func(x lbo) bool { return !sv.length && (x.lb > bestC.obj || (x.lb == bestC.obj && x.opt > bestC.opt)) }
+	pruned := func(x lbo) bool {
+		return !sv.length && (x.lb >= below || x.lb > bestC.obj || (x.lb == bestC.obj && x.opt > bestC.opt))
+	}
 	if dm.Diverse {
 		var retry []lbo
 		for _, x := range order {
@@ -806,12 +827,34 @@ func (sv *solver) best(d int) choice {
 			}
 		}
 	}
+	// Options whose cheapest path is too long get the search within reach after the others,
+	// if the cheapest path's weight lets them still win.
+	type within struct {
+		x        lbo
+		cheapest []Hop
+	}
+	var later []within
 	for _, x := range order {
 		if pruned(x) {
 			break
 		}
-		if hops, w, ok := sv.route(d, x.opt); ok {
+		hops, w, ok, tooLong := sv.route(d, x.opt)
+		switch {
+		case ok:
 			consider(x.opt, [2][]Hop{hops}, 1, w)
+		case tooLong:
+			if !sv.length {
+				x.lb = max(x.lb, w+sv.optionCents(d, x.opt, 1))
+			}
+			later = append(later, within{x, hops})
+		}
+	}
+	for _, y := range later {
+		if pruned(y.x) {
+			continue
+		}
+		if hops, w, ok := sv.routeWithin(d, y.x.opt, y.cheapest); ok {
+			consider(y.x.opt, [2][]Hop{hops}, 1, w)
 		}
 	}
 	return done()
