@@ -35,8 +35,10 @@ const maxPairTries = 6
 // pair returns demand d's best diverse pair for option o against the current state, legs
 // oriented free end → anchor, with their marginal weight. With mix false only the cost
 // weights are tried; fits reports then whether a pair was found but exceeds the reach (so
-// that a call with mix true may help).
-func (sv *solver) pair(d, o int, mix bool) (legs [2][]Hop, weight int64, ok, tooLong bool) {
+// that a call with mix true may help). A caller that wants only a pair weighing less than
+// below (bestBelow) gets none, and no search beyond the first, when the cheapest pair that
+// may share groups weighs as much.
+func (sv *solver) pair(d, o int, mix bool, below int64) (legs [2][]Hop, weight int64, ok, tooLong bool) {
 	s, t := sv.from[d], sv.to[d]
 	limit := sv.reach[d][o]
 	prof := sv.optProf[d][o]
@@ -50,8 +52,8 @@ func (sv *solver) pair(d, o int, mix bool) (legs [2][]Hop, weight int64, ok, too
 	}
 	w := sv.weightFor(d, o)
 	hc := treeH(sv.bound(t, prof).t)
-	try := func(wt func(e int32) (int64, bool), h heuristic[int64]) (ratio float64) {
-		cand, found := sv.groupPair(s, t, wt, h)
+	try := func(wt func(e int32) (int64, bool), h heuristic[int64], below int64) (ratio float64) {
+		cand, found := sv.groupPair(s, t, wt, h, below)
 		if !found {
 			return 0
 		}
@@ -68,7 +70,7 @@ func (sv *solver) pair(d, o int, mix bool) (legs [2][]Hop, weight int64, ok, too
 		}
 		return ratio
 	}
-	ratio := try(w, hc)
+	ratio := try(w, hc, below)
 	if ok || !mix || limit >= unlimitedMM {
 		if tooLong && !ok {
 			weight = sv.plainW // the cheapest pair ignoring reach: a bound for the reach scan
@@ -85,7 +87,7 @@ func (sv *solver) pair(d, o int, mix bool) (legs [2][]Hop, weight int64, ok, too
 		try(func(e int32) (int64, bool) {
 			c, okw := w(e)
 			return c + int64(math.Round(lambda*float64(sv.net.lenMM[e]))), okw
-		}, hc)
+		}, hc, math.MaxInt64)
 		if ok {
 			return legs, weight, ok, false
 		}
@@ -95,7 +97,7 @@ func (sv *solver) pair(d, o int, mix bool) (legs [2][]Hop, weight int64, ok, too
 			return 0, false
 		}
 		return sv.net.lenMM[e], true
-	}, treeH(lt))
+	}, treeH(lt), math.MaxInt64)
 	return legs, weight, ok, tooLong && !ok
 }
 
@@ -168,8 +170,9 @@ func (sv *solver) block(es []int32) {
 }
 
 // groupPair returns the cheapest pair under wt that shares no edge, interior node or group.
-// h is a consistent lower bound of wt to t, or nil.
-func (sv *solver) groupPair(s, t int, wt func(e int32) (int64, bool), h heuristic[int64]) ([2][]Hop, bool) {
+// h is a consistent lower bound of wt to t, or nil. It returns none when the cheapest pair
+// that may share groups weighs below or more: every pair it could find weighs as much.
+func (sv *solver) groupPair(s, t int, wt func(e int32) (int64, bool), h heuristic[int64], below int64) ([2][]Hop, bool) {
 	blocked := func(e int32) (int64, bool) {
 		if sv.blk[e] == sv.blkSt {
 			return 0, false
@@ -178,7 +181,7 @@ func (sv *solver) groupPair(s, t int, wt func(e int32) (int64, bool), h heuristi
 	}
 	sv.block(nil)
 	res := disjointPair(sv.ps, s, t, blocked, h)
-	if !res.ok {
+	if !res.ok || res.weight >= below {
 		return [2][]Hop{}, false
 	}
 	if sv.sharedGroup(res.legs) == 0 {

@@ -790,13 +790,20 @@ func (sv *solver) bestBelow(d int, below int64) choice {
 	pruned := func(x lbo) bool {
 		return !sv.length && (x.lb >= below || x.lb > bestC.obj || (x.lb == bestC.obj && x.opt > bestC.opt))
 	}
+	// pairBelow is the weight a pair of option o must stay under to be wanted.
+	pairBelow := func(o int) int64 {
+		if sv.length || below == math.MaxInt64 {
+			return math.MaxInt64
+		}
+		return below - sv.optionCents(d, o, 2)
+	}
 	if dm.Diverse {
 		var retry []lbo
 		for _, x := range order {
 			if pruned(x) {
 				break
 			}
-			legs, w, ok, tooLong := sv.pair(d, x.opt, false)
+			legs, w, ok, tooLong := sv.pair(d, x.opt, false, pairBelow(x.opt))
 			if ok {
 				consider(x.opt, legs, 2, w)
 			} else if tooLong {
@@ -813,7 +820,7 @@ func (sv *solver) bestBelow(d int, below int64) choice {
 			if pruned(x) {
 				continue
 			}
-			if legs, w, ok, _ := sv.pair(d, x.opt, true); ok {
+			if legs, w, ok, _ := sv.pair(d, x.opt, true, pairBelow(x.opt)); ok {
 				consider(x.opt, legs, 2, w)
 			}
 		}
