@@ -53,7 +53,10 @@ const minCellM = 25.0
 //  4. Via "lateral": the nearest point of any pathway within MaxLateralM of the footprint,
 //     which becomes a junction (a vertex within SnapM of it that marks a place on the line is
 //     used instead, so short spans are not cut off); the lateral runs from the nearest point of
-//     the footprint boundary.
+//     the footprint boundary. The nearest point of a pathway of the other status (existing,
+//     proposed) within MaxLateralM is an entrance too, by a lateral of its own. A counted
+//     lateral's tap within tapMergeM along its pathway of a junction already there moves to
+//     it (placeTaps).
 //
 // A building with none of these is an ErrUnreachable *input.Problem.
 //
