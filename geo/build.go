@@ -1,6 +1,7 @@
 package geo
 
 import (
+	"cmp"
 	"context"
 	"fmt"
 	"math"
@@ -52,7 +53,10 @@ const minCellM = 25.0
 //  4. Via "lateral": the nearest point of any pathway within MaxLateralM of the footprint,
 //     which becomes a junction (a vertex within SnapM of it that marks a place on the line is
 //     used instead, so short spans are not cut off); the lateral runs from the nearest point of
-//     the footprint boundary.
+//     the footprint boundary. The nearest point of a pathway of the other status (existing,
+//     proposed) within MaxLateralM is an entrance too, by a lateral of its own. A counted
+//     lateral's tap within tapMergeM along its pathway of a junction already there moves to
+//     it (placeTaps).
 //
 // A building with none of these is an ErrUnreachable *input.Problem.
 //
@@ -256,6 +260,7 @@ type builder struct {
 	walled  map[int]bool      // buildings (index) entered where pathways drawn across them cross a wall (wallDoors)
 	parted  map[int][][]int   // building index → the members splitInside parted, per meeting point
 	ids     map[int]string    // root → junction ID
+	taps    []tapReq          // counted laterals' taps planAccess found, for placeTaps
 	buf     []int32
 	chords  [][3]int // scratch: lateralPlace's chords
 }
@@ -745,14 +750,159 @@ func (b *builder) planAccess() {
 		}
 		lo, hi := f.lo.sub(vec{b.maxLat, b.maxLat}), f.hi.add(vec{b.maxLat, b.maxLat})
 		b.buf = b.segGrid.query(lo, hi, b.buf)
-		best := b.lateralPlace(f)
+		best := b.lateralPlace(f, "")
 		if best.seg < 0 || best.d > b.maxLat {
 			b.add(bl.Source, bl.ID, "", problemf(ErrUnreachable, "no pathway within %s m of the footprint (design: max_lateral_m)", fmtM(b.maxLat)))
 			continue
 		}
-		b.plans[bi] = accessPlan{via: ViaLateral, target: b.target(best.seg, best.t)}
-		b.doors[bi] = append(b.doors[bi], door{via: ViaLateral, target: b.plans[bi].target, entrance: -1})
+		b.plans[bi] = accessPlan{via: ViaLateral, target: -1}
+		b.lateralDoor(bi, best, true)
+		// The nearest place on a pathway of the other status is a way in too, each a counted
+		// lateral of its own length: the optimizer chooses between them by cost, as between
+		// any entrances, so a proposed pathway drawn a little nearer than an existing duct
+		// (a second bank beside it) is an option the plan may leave unused, never the only
+		// way in (and the reverse: a proposed bank the plan opens anyway may be the cheaper tap).
+		other := StatusProposed
+		if b.statusOf(best.seg) == StatusProposed {
+			other = StatusExisting
+		}
+		if alt := b.lateralPlace(f, other); alt.seg >= 0 && alt.d <= b.maxLat {
+			b.lateralDoor(bi, alt, false)
+		}
 	}
+	b.placeTaps()
+}
+
+// statusOf is the status of the pathway of segment seg.
+func (b *builder) statusOf(seg int) string {
+	return b.c.Pathways[b.parts[b.segs[seg].part].pw].Status
+}
+
+// tapMergeM is how far apart along one pathway a counted lateral's tap and another place
+// where something branches off it (a pathway that meets it, a structure, another lateral's
+// tap) may lie and still be one handhole: the tap moves there (placeTaps). A handhole is a
+// box of 1 to 2 m in the ground (README "Input"), so two branch points within 2 m enter one
+// box, and setting two boxes closer is neither built nor bought (common practice, no
+// published source).
+const tapMergeM = 2.0
+
+// tapReq is a counted lateral's tap before placeTaps places it: door of building bi, at the
+// place seg, t on a pathway, the lateral running from the footprint (foot) or from the
+// declared entrance at from.
+type tapReq struct {
+	bi, door int
+	plan     bool // the building's access plan is this door
+	seg      int
+	t        float64
+	at       vec // the place, projected
+	foot     bool
+	from     vec
+}
+
+// lateralDoor adds a door of building bi (which has no other way in) reached by a counted
+// lateral from its footprint to place pl, placed later by placeTaps; plan says the building's
+// access plan takes it.
+func (b *builder) lateralDoor(bi int, pl place, plan bool) {
+	b.doors[bi] = append(b.doors[bi], door{via: ViaLateral, target: -1, entrance: -1})
+	b.taps = append(b.taps, b.tapAt(bi, len(b.doors[bi])-1, plan, pl.seg, pl.t, true, vec{}))
+}
+
+func (b *builder) tapAt(bi, door int, plan bool, seg int, t float64, foot bool, from vec) tapReq {
+	sr := b.segs[seg]
+	p := &b.parts[sr.part]
+	return tapReq{bi: bi, door: door, plan: plan, seg: seg, t: t, at: lerp(p.xy[sr.i], p.xy[sr.i+1], t), foot: foot, from: from}
+}
+
+// placeTaps turns every counted lateral's place into the member that becomes its junction.
+// A place within tapMergeM along its pathway of a junction already there (a line's end, where
+// another pathway or a structure joins, another lateral's tap) moves to that junction, the
+// nearest, when the lateral stays within MaxLateralM: one handhole, or the structure there,
+// serves both. Not to a junction on or within SnapM of a footprint (a way into a building).
+// Otherwise target places it. The taps are placed west to east, then south to north, so a
+// tap that moves to another's follows the places, not the features' order or ids.
+func (b *builder) placeTaps() {
+	reqs := b.taps
+	b.taps = nil
+	if len(reqs) == 0 {
+		return
+	}
+	slices.SortStableFunc(reqs, func(x, y tapReq) int {
+		return cmp.Or(cmp.Compare(x.at.x, y.at.x), cmp.Compare(x.at.y, y.at.y), cmp.Compare(x.bi, y.bi), cmp.Compare(x.door, y.door))
+	})
+	// What a junction holds before the taps: more than one line, a structure, an entrance.
+	parts := make(map[int]int, len(b.mem)/2) // root → a part there (-1 when two or more)
+	entrance := make(map[int]bool)
+	for i, m := range b.mem {
+		r := b.find(i)
+		switch {
+		case m.kind == memEntrance:
+			entrance[r] = true
+		case m.part >= 0:
+			if q, ok := parts[r]; !ok {
+				parts[r] = m.part
+			} else if q != m.part {
+				parts[r] = -1
+			}
+		}
+	}
+	junction := func(m int) bool { // m becomes a junction whatever the taps (cut's worthy) or is a tap's
+		mm := b.mem[m]
+		r := b.find(m)
+		if entrance[r] {
+			return false
+		}
+		return mm.force || parts[r] < 0 || b.labeled[r] || mm.kind == memVertex && (mm.seg == 0 || mm.seg == len(b.parts[mm.part].xy)-1)
+	}
+	limit := b.maxLat * (1 - 1e-3) // the lateral's length is checked on the ellipsoid (access): keep clear of it
+	for _, q := range reqs {
+		sr := b.segs[q.seg]
+		p := &b.parts[sr.part]
+		at := p.along(sr.i, q.t)
+		best, bestD := -1, math.Inf(1)
+		try := func(m int, along float64) {
+			d := math.Abs(along - at)
+			if d > tapMergeM || !junction(m) || (best >= 0 && (d > bestD || d == bestD && !lessLL(b.mem[m].ll, b.mem[best].ll))) {
+				return
+			}
+			xy := b.mem[m].xy
+			latM := xy.dist(q.from)
+			if q.foot {
+				latM = b.feet[q.bi].distTo(xy)
+			}
+			if latM > limit || b.nearFootprint(xy) {
+				return
+			}
+			best, bestD = m, d
+		}
+		for v := range p.xy {
+			try(p.v0+v, p.cum[v])
+		}
+		for _, m := range b.splits[sr.part] {
+			try(m, p.along(b.mem[m].seg, b.mem[m].t))
+		}
+		if best < 0 {
+			best = b.target(q.seg, q.t)
+		}
+		b.mem[best].force = true
+		b.doors[q.bi][q.door].target = best
+		if q.plan {
+			b.plans[q.bi].target = best
+		}
+	}
+}
+
+// nearFootprint reports whether xy lies in a footprint or within SnapM of one.
+func (b *builder) nearFootprint(xy vec) bool {
+	for i := range b.feet {
+		f := &b.feet[i]
+		if f.empty() || xy.x < f.lo.x-b.snap || xy.x > f.hi.x+b.snap || xy.y < f.lo.y-b.snap || xy.y > f.hi.y+b.snap {
+			continue
+		}
+		if f.distTo(xy) <= b.snap {
+			return true
+		}
+	}
+	return false
 }
 
 // wallDoors lists, as members that must become junctions, every place where a pathway
@@ -798,7 +948,7 @@ func (b *builder) footprintEnds(f *footprint) []int {
 }
 
 // lateralPlace is where a counted lateral from footprint f joins the pathways among b.buf
-// (seg < 0 when none). The nearest pathway decides how far the lateral must reach; where it
+// of the given status ("": any) (seg < 0 when none). The nearest pathway decides how far the lateral must reach; where it
 // joins is the place about as near (within lateralTieM) that lies closest to the footprint's
 // centre. A footprint edge parallel to a pathway is equally near all along it, and the
 // nearest place alone would jump from one end of the edge to the other when a vertex moves by
@@ -810,11 +960,14 @@ func (b *builder) footprintEnds(f *footprint) []int {
 // vertices that a file's last digit puts a hair off the line does not swing the place along
 // it (a corner of the footprint 20 m away, projected on a segment of 10 cm whose ends are each
 // 0.08 mm off, moves by 3 cm).
-func (b *builder) lateralPlace(f *footprint) place {
+func (b *builder) lateralPlace(f *footprint, status string) place {
 	chords := b.chords[:0] // part, first and last kept vertex; a few per building
 	for _, s := range b.buf {
 		sr := b.segs[s]
 		p := &b.parts[sr.part]
+		if status != "" && b.c.Pathways[p.pw].Status != status {
+			continue
+		}
 		k, _ := slices.BinarySearch(p.kept, int32(sr.i)+1)
 		if ch := [3]int{sr.part, int(p.kept[k-1]), int(p.kept[min(k, len(p.kept)-1)])}; !slices.Contains(chords, ch) {
 			chords = append(chords, ch)
@@ -891,7 +1044,7 @@ func (b *builder) planEntrance(bi int, bl Building, ents []int) accessPlan {
 			on = ei
 		}
 	}
-	best, bestE, bestM := math.Inf(1), -1, -1
+	best, bestE, bestTap := math.Inf(1), -1, -1
 	if f := &b.feet[bi]; !f.empty() {
 		// An entrance is where cables go through the building's wall. One declared away from
 		// the footprint (a mistyped coordinate, another building's id) ends every route
@@ -924,11 +1077,11 @@ func (b *builder) planEntrance(bi int, bl Building, ents []int) accessPlan {
 				b.entIDs[ei], bl.ID, fmtM(b.maxLat))})
 			continue
 		}
-		m := b.target(seg, t)
-		b.doors[bi] = append(b.doors[bi], door{via: ViaEntrance, target: m, entrance: ei, from: b.c.Entrances[ei].Point, lateral: true})
+		b.doors[bi] = append(b.doors[bi], door{via: ViaEntrance, target: -1, entrance: ei, from: b.c.Entrances[ei].Point, lateral: true})
+		b.taps = append(b.taps, b.tapAt(bi, len(b.doors[bi])-1, false, seg, t, false, b.mem[b.entMem[ei]].xy))
 		if bestE < 0 || math.Round(d*1000) < math.Round(best*1000) ||
 			(math.Round(d*1000) == math.Round(best*1000) && b.entIDs[ei] < b.entIDs[bestE]) {
-			best, bestE, bestM = d, ei, m
+			best, bestE, bestTap = d, ei, len(b.taps)-1
 		}
 	}
 	if on >= 0 {
@@ -938,7 +1091,8 @@ func (b *builder) planEntrance(bi int, bl Building, ents []int) accessPlan {
 		b.add(bl.Source, bl.ID, "", problemf(ErrUnreachable, "no pathway within %s m of its entrance (design: max_lateral_m)", fmtM(b.maxLat)))
 		return accessPlan{}
 	}
-	return accessPlan{via: ViaEntrance, target: bestM, entrance: bestE,
+	b.taps[bestTap].plan = true // placeTaps sets the target
+	return accessPlan{via: ViaEntrance, target: -1, entrance: bestE,
 		from: b.c.Entrances[bestE].Point, lateral: true}
 }
 

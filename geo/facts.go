@@ -101,6 +101,9 @@ type NearMiss struct {
 	// instead (sorted; none when it dangles).
 	StructureType string
 	Joins         []string
+	// Lateral says the end joins nothing but the counted lateral of the building whose
+	// footprint it misses (Kind KindBuilding): the plan reaches the building across the gap.
+	Lateral bool
 }
 
 // structureMissFactor times SnapM is how far from a structure a pathway end that does not
@@ -123,6 +126,10 @@ func (m NearMiss) String() string {
 	what := "pathway"
 	if m.Kind == KindBuilding {
 		what = "the footprint of building"
+	}
+	if m.Lateral {
+		return fmt.Sprintf("pathway %s ends %s m from %s %s, beyond snap_m %s; the plan reaches it there by a counted lateral and a new entrance (drawn to its wall? snap_m %s would join it)",
+			m.Pathway, fmtBeyond(m.DistanceM, m.SnapM), what, m.Target, fmtM(m.SnapM), snapToJoin(m.DistanceM))
 	}
 	return fmt.Sprintf("pathway %s ends %s m from %s %s, beyond snap_m %s", m.Pathway, fmtBeyond(m.DistanceM, m.SnapM), what, m.Target, fmtM(m.SnapM))
 }
@@ -824,11 +831,18 @@ func (f *footprint) insideParts(a, c vec, ts []float64, each func(t0, t1 float64
 }
 
 // dangling warns about every pathway end that joins nothing (no other span, structure,
-// entrance or footprint there) and lists what such ends nearly reach.
+// entrance or footprint there) and lists what such ends nearly reach. An end that joins
+// nothing but the counted lateral of a building whose footprint it stops short of (beyond
+// SnapM, within NearMissM: the lateral taps the end, the nearest place) is a near miss of
+// that footprint too, warned about as such: the plan builds a new entrance and lateral there.
 func (b *builder) dangling(n *Network) {
-	entry := make(map[string]bool, len(n.Entrances))
+	entry := make(map[string]int, len(n.Entrances)) // junction → entrances there
+	tapped := make(map[string][]Entry)              // junction → the counted laterals of buildings with no other way in that end there
 	for _, e := range n.Entrances {
-		entry[e.Junction] = true
+		entry[e.Junction]++
+		if e.Via == ViaLateral {
+			tapped[e.Junction] = append(tapped[e.Junction], e)
+		}
 	}
 	degree := make(map[string]int, len(n.Meetings))
 	for _, m := range n.Meetings {
@@ -840,7 +854,14 @@ func (b *builder) dangling(n *Network) {
 		for _, v := range [2]int{0, len(p.xy) - 1} {
 			r := b.find(p.v0 + v)
 			id, ok := b.ids[r]
-			if !ok || b.labeled[r] || degree[id] != 1 || entry[id] || seen[id] {
+			if !ok || b.labeled[r] || degree[id] != 1 || seen[id] {
+				continue
+			}
+			if entry[id] > 0 {
+				if laterals := tapped[id]; len(laterals) == entry[id] {
+					seen[id] = true
+					n.NearMisses = append(n.NearMisses, b.lateralMisses(pi, v, id, laterals)...)
+				}
 				continue
 			}
 			seen[id] = true
@@ -914,6 +935,29 @@ func (b *builder) nearMisses(pi, v int, id string) []NearMiss {
 			m.Kind, m.Target, m.At, m.DistanceM = KindBuilding, bl.ID, at, DistanceM(end, at)
 			out = append(out, m)
 		}
+	}
+	return out
+}
+
+// lateralMisses lists, as near misses of footprints, the counted laterals (of buildings with
+// no other way in) that end at vertex v of part pi, a pathway end at junction id that joins
+// nothing else, and warns about each: the line was most likely drawn to the wall and stops a
+// little short of it, and the plan builds a new entrance and a counted lateral across the gap
+// (trench, restoration, duct) beside the pathway that already reaches the building.
+func (b *builder) lateralMisses(pi, v int, id string, laterals []Entry) []NearMiss {
+	p := &b.parts[pi]
+	pw := b.c.Pathways[p.pw]
+	var out []NearMiss
+	for _, e := range laterals {
+		if e.LateralM <= b.snap || e.LateralM > b.nearMiss || len(e.Lateral) == 0 {
+			continue
+		}
+		m := NearMiss{Pathway: pw.ID, Source: pw.Source, Junction: id, End: p.ll[v], Kind: KindBuilding, Target: e.Building,
+			At: e.Lateral[0], DistanceM: e.LateralM, SnapM: b.snap, Lateral: true}
+		out = append(out, m)
+		b.warns = append(b.warns, warnRec{pw.Source, pw.ID, fmt.Sprintf(
+			"pathway %q ends %s m from the footprint of building %q, beyond %s m (design: snap_m), and joins nothing else: the plan reaches %q there by a counted lateral of %s m, a new entrance with its own wall penetration; if the line is drawn to the wall, snap_m %s would join it",
+			pw.ID, fmtBeyond(m.DistanceM, b.snap), e.Building, fmtM(b.snap), e.Building, fmtBeyond(m.DistanceM, b.snap), snapToJoin(m.DistanceM))})
 	}
 	return out
 }

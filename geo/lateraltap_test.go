@@ -1,0 +1,152 @@
+package geo
+
+import (
+	"math"
+	"slices"
+	"testing"
+
+	"github.com/paulmach/orb"
+)
+
+// entryPoints lists building b's entrances as (via, junction point, lateral metres to the
+// centimetre), in the network's order.
+type entryPoint struct {
+	via      string
+	at       orb.Point
+	lateralC int64
+}
+
+func entryPoints(t *testing.T, n *Network, b string) []entryPoint {
+	t.Helper()
+	var out []entryPoint
+	for _, e := range n.EntrancesOf(b) {
+		j, ok := n.Junction(e.Junction)
+		if !ok {
+			t.Fatalf("entrance %s of %s: no junction %s", e.ID, b, e.Junction)
+		}
+		out = append(out, entryPoint{e.Via, j.Point, int64(math.Round(e.LateralM * 100))})
+	}
+	return out
+}
+
+// TestLateralTapsBothStatuses: building B has no pathway end and no entrance; the existing
+// duct E runs 18 m from its wall and a proposed second bank P 1.2 m beside it, 16.8 m from
+// the wall. The nearest pathway alone would make P the only way in and force the plan to
+// build it; B gets a counted lateral to each, its own length, so the optimizer chooses by
+// cost (README "Input"). Without P, B's way in to E is the same place and length, so drawing
+// P only adds an option. The order of the features does not change the entrances. The
+// distances are common practice, no published source.
+func TestLateralTapsBothStatuses(t *testing.T) {
+	t.Parallel()
+	proposed := pw("P", ml(-100, 1.2, 100, 1.2))
+	proposed.Status = StatusProposed
+	c := Campus{
+		Buildings: []Building{box("B", 0, 28, 10)},
+		Pathways:  []Pathway{pw("E", ml(-100, 0, 100, 0)), proposed},
+	}
+	n := build(t, &c)
+	checkNetwork(t, n)
+	got := entryPoints(t, n, "B")
+	if len(got) != 2 || got[0].via != ViaLateral || got[1].via != ViaLateral {
+		t.Fatalf("entrances of B %+v; want two counted laterals", got)
+	}
+	lengths := []int64{got[0].lateralC, got[1].lateralC}
+	slices.Sort(lengths)
+	if math.Abs(float64(lengths[0])-1680) > 2 || math.Abs(float64(lengths[1])-1800) > 2 {
+		t.Errorf("laterals of B %v cm; want 16.8 m to P and 18.0 m to E", lengths)
+	}
+	if a := n.Access[0]; a.Building != "B" || math.Abs(a.LateralM-16.8) > 0.02 {
+		t.Errorf("access %+v; want the nearest, P's 16.8 m", a)
+	}
+
+	onE := slices.IndexFunc(got, func(e entryPoint) bool { return e.lateralC > 1750 })
+	alone := Campus{Buildings: c.Buildings, Pathways: c.Pathways[:1]}
+	na := build(t, &alone)
+	if ea := entryPoints(t, na, "B"); len(ea) != 1 || ea[0] != got[onE] {
+		t.Errorf("without P, B's entrance %+v; want %+v, its way in to E with P drawn", ea, got[onE])
+	}
+
+	rev := Campus{Buildings: c.Buildings, Pathways: []Pathway{c.Pathways[1], c.Pathways[0]}}
+	if gr := entryPoints(t, build(t, &rev), "B"); !slices.Equal(gr, got) {
+		t.Errorf("features reversed: entrances %+v, want %+v", gr, got)
+	}
+}
+
+// TestTapMovesToJunction: a counted lateral's tap within tapMergeM (2 m) along its pathway of
+// a place where something else branches off it moves there, so one handhole (or the structure
+// there) serves both: a structure is a box of 1 to 2 m in the ground (README "Input"), and two
+// handholes closer than that are neither built nor bought (common practice, no published
+// source). Building B's nearest place on the street duct S is (0, 0), below its middle.
+func TestTapMovesToJunction(t *testing.T) {
+	t.Parallel()
+	street := func() Pathway { return pw("S", ml(-100, 0, 100, 0)) }
+	for _, tc := range []struct {
+		name   string
+		narrow bool // B is 2 m wide, not 20 m: a tap moved along the street lengthens its lateral
+		extra  func(c *Campus)
+		opt    Options
+		want   orb.Point // B's tap
+		latM   float64   // B's lateral
+	}{
+		{"no junction near: below the middle", false, func(c *Campus) {}, Options{}, at(0, 0), 18},
+		{"a drawn lateral 1.5 m along: its junction", false, func(c *Campus) {
+			c.Buildings = append(c.Buildings, box("K", 1.5, -25, 5))
+			c.Pathways = append(c.Pathways, pw("L-K", ml(1.5, 0, 1.5, -20)))
+		}, Options{}, at(1.5, 0), 18},
+		{"a drawn lateral 2.5 m along: a tap of its own", false, func(c *Campus) {
+			c.Buildings = append(c.Buildings, box("K", 2.5, -25, 5))
+			c.Pathways = append(c.Pathways, pw("L-K", ml(2.5, 0, 2.5, -20)))
+		}, Options{}, at(0, 0), 18},
+		{"a handhole 1.8 m along: the handhole", false, func(c *Campus) {
+			c.Structures = append(c.Structures, Structure{Source: Source{File: "t.geojson"}, ID: "HH-1", Type: "handhole", Point: at(-1.8, 0)})
+		}, Options{}, at(-1.8, 0), 18},
+		{"another building's tap 1.5 m along: one junction", false, func(c *Campus) {
+			c.Buildings = append(c.Buildings, box("K", 1.5, -28, 10))
+		}, Options{}, at(0, 0), 18},
+		{"a narrow building, a drawn lateral 1.9 m along: its junction", true, func(c *Campus) {
+			c.Buildings = append(c.Buildings, box("K", 1.9, -25, 5))
+			c.Pathways = append(c.Pathways, pw("L-K", ml(1.9, 0, 1.9, -20)))
+		}, Options{}, at(1.9, 0), math.Hypot(0.9, 18)},
+		{"the lateral would pass max_lateral_m: a tap of its own", true, func(c *Campus) {
+			c.Buildings = append(c.Buildings, box("K", 1.9, -25, 5))
+			c.Pathways = append(c.Pathways, pw("L-K", ml(1.9, 0, 1.9, -20)))
+		}, Options{MaxLateralM: 18.02}, at(0, 0), 18},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			c := Campus{Buildings: []Building{box("B", 0, 28, 10)}, Pathways: []Pathway{street()}}
+			if tc.narrow {
+				c.Buildings[0] = box("B", 0, 19, 1)
+			}
+			tc.extra(&c)
+			n, err := Build(&c, tc.opt)
+			if err != nil {
+				t.Fatal(err)
+			}
+			checkNetwork(t, n)
+			es := n.EntrancesOf("B")
+			if len(es) != 1 || es[0].Via != ViaLateral {
+				t.Fatalf("entrances of B %+v; want one counted lateral", es)
+			}
+			j, _ := n.Junction(es[0].Junction)
+			if DistanceM(j.Point, tc.want) > 0.01 {
+				t.Errorf("B taps at %v (%.2f m off); want %v", j.Point, DistanceM(j.Point, tc.want), tc.want)
+			}
+			if math.Abs(es[0].LateralM-tc.latM) > 0.01 {
+				t.Errorf("B's lateral %.3f m; want %.3f, from its wall to the tap", es[0].LateralM, tc.latM)
+			}
+			if k := n.EntrancesOf("K"); len(k) == 1 && k[0].Via == ViaLateral && k[0].Junction != es[0].Junction {
+				t.Errorf("K taps at %s, B at %s; want one junction", k[0].Junction, es[0].Junction)
+			}
+			// Reordering the features changes nothing.
+			slices.Reverse(c.Buildings)
+			slices.Reverse(c.Pathways)
+			n2, err := Build(&c, tc.opt)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if a, b := entryPoints(t, n, "B"), entryPoints(t, n2, "B"); !slices.Equal(a, b) {
+				t.Errorf("features reversed: B's entrances %+v, want %+v", b, a)
+			}
+		})
+	}
+}
