@@ -69,13 +69,41 @@ func (sv *solver) auditMemo(d int, before key) {
 
 // rebest takes demand d out of the plan and returns its old choice and its best choice
 // against the rest. The last flushed packing must still hold d's cable on its old route: the
-// searches then see d's own place in the ducts of that route as free (see penalty).
+// searches then see d's own place in the ducts of that route as free (see penalty). Where
+// the old choice may stay, only a cheaper one is searched for (bestBelow), and none found
+// keeps the old one: most reroutes find the demand's own route again.
 func (sv *solver) rebest(d int) (old, nb choice) {
 	old = sv.remove(d)
 	sv.markOwn(d, old)
-	nb = sv.best(d)
+	stay := sv.stayCost(d, old)
+	nb = sv.bestBelow(d, stay)
+	if nb.opt < 0 && stay < math.MaxInt64 {
+		nb = old
+	}
 	sv.endOwn()
 	return old, nb
+}
+
+// stayCost is the objective of choice c for demand d against the current state (which must
+// not contain d), as best weighs a choice; math.MaxInt64 when c may not stay (no route, an
+// edge forbidden or without room for its cable) or under the length objective, which weighs
+// routes in metres.
+func (sv *solver) stayCost(d int, c choice) int64 {
+	if c.opt < 0 || sv.length {
+		return math.MaxInt64
+	}
+	w := sv.weightFor(d, c.opt)
+	cost := sv.optionCents(d, c.opt, len(c.legs))
+	for _, leg := range c.legs {
+		for _, h := range leg {
+			we, ok := w(int32(h.Edge))
+			if !ok {
+				return math.MaxInt64
+			}
+			cost += we
+		}
+	}
+	return cost
 }
 
 // markOwn records choice c of demand d as the cable the last flushed packing holds for d.
