@@ -421,7 +421,7 @@ func (p *Plan) validate(errs *input.Problems) {
 	// A reel between two joins carries the splicing slack at both its ends, and some cable
 	// besides, or no number of reels would reach.
 	if !reported("design.splice_slack_m", "design.reel_m", "design.waste_pct") && 2*g.SpliceSlackM >= g.ReelM/(1+g.WastePct/100) {
-		bad("design.splice_slack_m", input.ErrBadValue, "want less than half of the channel a reel carries (reel_m / (1 + waste_pct/100) / 2 = %g metres), got %g",
+		bad("design.splice_slack_m", input.ErrBadValue, "want less than half of the channel a reel carries (reel_m / (1 + waste_pct/100) / 2 = %.2f metres), got %g",
 			g.ReelM/(1+g.WastePct/100)/2, g.SpliceSlackM)
 	}
 	switch {

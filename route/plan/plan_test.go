@@ -71,7 +71,7 @@ func TestParsePlanErrors(t *testing.T) {
 		{"innerduct inside not below outside", "campus: [c]\ndesign: {innerduct_od_mm: 32, innerduct_id_mm: 32}\n", []string{"plan.yaml:2:48: design.innerduct_id_mm: want millimetres above 0 and below innerduct_od_mm (32), got 32"}},
 		{"negative splice slack", "campus: [c]\ndesign: {splice_slack_m: -1}\n", []string{"plan.yaml:2:26: design.splice_slack_m: want metres from 0 to 1000, got -1"}},
 		{"splice slack a reel cannot carry", "campus: [c]\ndesign: {reel_m: 105, waste_pct: 5, splice_slack_m: 50}\n",
-			[]string{"plan.yaml:2:53: design.splice_slack_m: want less than half of the channel a reel carries (reel_m / (1 + waste_pct/100) / 2 = 50 metres), got 50"}},
+			[]string{"plan.yaml:2:53: design.splice_slack_m: want less than half of the channel a reel carries (reel_m / (1 + waste_pct/100) / 2 = 50.00 metres), got 50"}},
 		{"negative sidewall limit", "campus: [c]\ndesign: {pull_max_swbp_n_per_m: -1}\n", []string{"plan.yaml:2:33: design.pull_max_swbp_n_per_m: want N/m from 0 to 100000, got -1"}},
 		{"several problems at once", "campus: [c]\ndefaults: {strands: 0, growth: -1}\ndesign: {snap_m: 0}\n",
 			[]string{"defaults.strands", "defaults.growth", "design.snap_m"}},
