@@ -33,7 +33,7 @@ type CableTakeoff struct {
 	// slack: the length the loss budget counts.
 	ChannelM float64
 	WasteM   float64 // design.waste_pct of ChannelM
-	LengthM  float64 // the length bought: ChannelM + WasteM rounded up to a whole metre
+	LengthM  float64 // the length bought: ChannelM + WasteM rounded up to a whole metre; with joins the reels' cuts added up (ReelsM)
 	Reels    int     // reels of at most design.reel_m that LengthM takes
 	Joins    int     // mid-span splices between reels; each strand's path crosses every one
 	// Splices are where the Joins go, in travel order from the served building (placeJoins);
@@ -394,9 +394,8 @@ func locate(spans []spanOnChannel, loopM, atM float64) (string, float64, string,
 // its waste spent (that piece cut to the whole reel): a crew carries the reel on to a
 // structure rather than build a splice point a few metres short of it, where the next reel
 // would be joined again (review 12b: 0.8 m apart on reels of 120 m; common practice, no
-// published source).
-// Failing that, the join is at its reel's end, NoStructure, by its distance along the cable
-// from the served building. Each reel is cut to its channel with waste in whole metres
+// published source). Failing that, the join is at its reel's end, NoStructure, by its
+// distance along the cable from the served building. Each reel is cut to its channel with waste in whole metres
 // (ReelsM), at most reel_m; without joins the one reel is lengthM. So the joins, which the
 // bill counts and the loss budget takes as splices, are the placed ones: as many as
 // reels(channelM) gives by length, or more where structures are far apart.
