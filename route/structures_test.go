@@ -37,8 +37,12 @@ func TestStructuresPassedOneCount(t *testing.T) {
 		if c.StructureLoopM != float64(c.Structures)*d.SlackLoopStructureM {
 			t.Errorf("%s %s: structure loops %.1f m for %d structures", l.Link.ID, l.Name, c.StructureLoopM, c.Structures)
 		}
-		// The channel the loss budget counts holds the loops (route + risers + every slack loop).
-		if want := l.RouteM + l.RiserM + c.EndSlackM + c.EntranceLoopM + c.StructureLoopM; c.ChannelM != want {
+		// The channel the loss budget counts holds the loops (route + risers + every slack loop)
+		// and the splicing slack of its joins, splice_slack_m at each of a join's two cable ends.
+		if c.SpliceSlackM != 2*d.SpliceSlackM*float64(c.Joins) {
+			t.Errorf("%s %s: splicing slack %.1f m for %d joins", l.Link.ID, l.Name, c.SpliceSlackM, c.Joins)
+		}
+		if want := l.RouteM + l.RiserM + c.EndSlackM + c.EntranceLoopM + c.StructureLoopM + c.SpliceSlackM; c.ChannelM != want {
 			t.Errorf("%s %s: channel %.3f m, want %.3f", l.Link.ID, l.Name, c.ChannelM, want)
 		}
 		// Its reels: cut in whole metres, none over reel_m, summing to the cable bought; a join

@@ -170,7 +170,9 @@ func TestReelJoinsInLossBudget(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	cut, err := testplan.PullSolve(t, 100, 2, func(p *plan.Plan) { p.Design.ReelM = 150 })
+	// No splicing slack here, so that the joins' splices alone change the loss budget
+	// (TestSpliceSlackAtJoins takes the slack).
+	cut, err := testplan.PullSolve(t, 100, 2, func(p *plan.Plan) { p.Design.ReelM, p.Design.SpliceSlackM = 150, 0 })
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -210,6 +212,83 @@ func TestReelJoinsInLossBudget(t *testing.T) {
 	}
 	if s := output.Summarize(cut); s.MidSpanSplices != int(joins) {
 		t.Errorf("summary mid-span splices: got %d", s.MidSpanSplices)
+	}
+}
+
+// TestSpliceSlackAtJoins: each cable end at a mid-span join gets design.splice_slack_m of
+// splicing slack (the join is made above ground, then the slack is coiled in the structure
+// with the closure; 15 m by default, common practice, no published source, 10–15 m from
+// memory): the same joins as without it (the pull campus on 200 m reels, 20 m of slack an
+// end) put 2 × 20 m a join more in the channel, the cable bought (every reel within
+// its 200 m) and the slack loops, and in the loss budget that fibre's attenuation at each
+// wavelength (ANSI/TIA-568.3-D's cabled maximum for indoor/outdoor single-mode, 0.5 dB/km at
+// 1310 and 1550 nm, from memory: 80 m add 0.04 dB) and nothing for splices, whose count is the
+// same (ANSI/TIA-568.3-D: 0.3 dB a splice, TestReelJoinsInLossBudget); the bill's cable and the
+// labour placing loops grow with it.
+func TestSpliceSlackAtJoins(t *testing.T) {
+	t.Parallel()
+	const reelM, endM = 200.0, 20.0
+	solve := func(slackM float64) *route.Result {
+		r, err := testplan.PullSolve(t, 100, 2, func(p *plan.Plan) { p.Design.ReelM, p.Design.SpliceSlackM = reelM, slackM })
+		if err != nil {
+			t.Fatal(err)
+		}
+		return r
+	}
+	none, with := solve(0), solve(endM)
+	_, a := testplan.LegOf(t, none, "A-B")
+	_, b := testplan.LegOf(t, with, "A-B")
+	if a.Cable.Joins == 0 || b.Cable.Joins != a.Cable.Joins || a.RouteM != b.RouteM || a.Medium != b.Medium || a.Construction != b.Construction {
+		t.Fatalf("want the same route, medium and joins: %d joins on %.1f m of %s %s, then %d on %.1f m of %s %s",
+			a.Cable.Joins, a.RouteM, a.Medium, a.Construction, b.Cable.Joins, b.RouteM, b.Medium, b.Construction)
+	}
+	slackM := 2 * endM * float64(b.Cable.Joins)
+	if b.Cable.SpliceSlackM != slackM || a.Cable.SpliceSlackM != 0 {
+		t.Errorf("splicing slack: %.1f m, want %.0f (%d joins × 2 × %.0f m); without: %.1f", b.Cable.SpliceSlackM, slackM, b.Cable.Joins, endM, a.Cable.SpliceSlackM)
+	}
+	if d := b.Cable.ChannelM - a.Cable.ChannelM; math.Abs(d-slackM) > 1e-9 {
+		t.Errorf("channel: %.1f m more, want %.0f", d, slackM)
+	}
+	if d := b.Cable.SlackM() - a.Cable.SlackM(); math.Abs(d-slackM) > 1e-9 {
+		t.Errorf("slack loops: %.1f m more, want %.0f", d, slackM)
+	}
+	// The cable bought: the slack with its waste, each reel rounded up on its own.
+	if d := b.Cable.LengthM - a.Cable.LengthM; d < slackM*1.05 || d > slackM*1.05+float64(b.Cable.Reels) {
+		t.Errorf("cable bought: %.0f m more, want %.0f m and the reels' round-up", d, slackM*1.05)
+	}
+	for _, m := range b.Cable.ReelsM {
+		if m > reelM {
+			t.Errorf("reels %v: a piece over the %.0f m reel", b.Cable.ReelsM, reelM)
+		}
+	}
+	if b.Medium != "os2" || b.Construction != "indoor-outdoor" || len(a.Losses) != 2 {
+		t.Fatalf("A-B: %s %s at %d wavelengths, want os2 indoor-outdoor at 1310 and 1550 nm", b.Medium, b.Construction, len(a.Losses))
+	}
+	for n, x := range a.Losses {
+		y := b.Losses[n]
+		const atten = 0.5 // dB/km, ANSI/TIA-568.3-D indoor/outdoor single-mode (from memory)
+		if d := y.LossDB - x.LossDB; math.Abs(d-slackM/1000*atten) > 1e-9 {
+			t.Errorf("%d nm: the slack adds %.4f dB, want %.0f m × %.2f dB/km = %.4f dB", x.WavelengthNM, d, slackM, atten, slackM/1000*atten)
+		}
+	}
+	// The bill, over every leg of the campus (each the same route in both plans).
+	item := items.Cable(b.Medium, b.Construction, b.Cable.Size.Count, true, 0).Item
+	wantM, placedM := 0.0, 0.0
+	for i := range with.Legs {
+		x, y := &none.Legs[i], &with.Legs[i]
+		if y.Feasible && items.Cable(y.Medium, y.Construction, y.Cable.Size.Count, true, 0).Item == item {
+			wantM += (y.Cable.LengthM - x.Cable.LengthM) * float64(y.Cable.Cables)
+		}
+		placedM += y.Cable.SpliceSlackM * float64(y.Cable.Cables)
+	}
+	if d := testplan.BOMQty(with.Estimate.BOM, item) - testplan.BOMQty(none.Estimate.BOM, item); d != wantM || d <= 0 {
+		t.Errorf("bill %q: %.0f m more, want the cable bought's %.0f", item, d, wantM)
+	}
+	pull := items.Pull(geo.TypeDuct, 0).Item
+	x, _ := testplan.BOMLine(none.Estimate.BOM, pull)
+	y, _ := testplan.BOMLine(with.Estimate.BOM, pull)
+	if d := y.Work - x.Work; math.Abs(d-placedM) > 1e-6 || placedM < slackM {
+		t.Errorf("%q: %.1f m more, want the splicing slack's %.0f m placed", pull, d, placedM)
 	}
 }
 

@@ -261,7 +261,8 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 	structs := wb.AddSheet("structures",
 		workbook.Column{Name: "mark"}, workbook.Column{Name: "structure"}, workbook.Column{Name: "status"},
 		workbook.Column{Name: "type"}, workbook.Column{Name: "purpose"}, workbook.Column{Name: "longitude", Unit: "deg"},
-		workbook.Column{Name: "latitude", Unit: "deg"}, workbook.Column{Name: "legs through it"}, workbook.Column{Name: "legs joined there"})
+		workbook.Column{Name: "latitude", Unit: "deg"}, workbook.Column{Name: "legs through it"}, workbook.Column{Name: "legs joined there"},
+		workbook.Column{Name: "coiled there", Unit: u.Length})
 	structs.Filter = true
 	fill := wb.AddSheet("duct fill",
 		workbook.Column{Name: "span"}, workbook.Column{Name: "pathway"}, workbook.Column{Name: "duct"},
@@ -480,7 +481,7 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 		structs.Append(workbook.Int(int64(st.Mark)), workbook.Text(st.Place(func(m float64) string { return LengthText(opt, m) })),
 			workbook.Text(st.Status), workbook.Text(st.Type), workbook.Text(st.Purpose), workbook.Number(st.Point[0], 7),
 			workbook.Number(st.Point[1], 7), workbook.Text(listCell(st.Legs, "plan.gpkg's structures layer")),
-			workbook.Text(listCell(st.Joined, "plan.gpkg's structures layer")))
+			workbook.Text(listCell(st.Joined, "plan.gpkg's structures layer")), workbook.Number(u.M(st.CoiledM), 1))
 	}
 	for _, f := range r.Estimate.Fill {
 		ods := make([]string, len(f.CablesODMM))

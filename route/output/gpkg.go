@@ -123,6 +123,7 @@ func gpkgLayers() []gpkgout.Layer {
 				c("purpose", tx, "to build: join, tap, turn, run, pull or splice (as added_structures); existing: slack loop, pull point (both joined by a comma) or passed; then splice closure where a leg's mid-span join is placed (joined_text)"),
 				c("legs_text", tx, "legs through it, link/leg, joined by |"),
 				c("joined_text", tx, "legs with a mid-span join there (a splice closure, the next reel starting there), link/leg, joined by |; empty where none is"),
+				c("coiled_m", re, "cable coiled there over every cable, metres: a slack loop per cable of each leg through it that leaves one, and the splicing slack at both ends of each cable joined there"),
 			}},
 		{Name: LayerBuildings, Geometry: gpkgout.MultiPolygon,
 			Description: "every building of the campus",
@@ -377,7 +378,7 @@ func planLayers(ctx context.Context, r *route.Result, sts func() (structureList,
 	// The structures table.
 	for _, st := range found.all {
 		add(LayerAllStructures, st.Point, st.Mark, optional(st.ID, st.ID != ""), optional(st.Span, st.Span != ""),
-			optional(round1(st.AtM), st.Span != ""), st.Status, st.Type, st.Purpose, ListText(st.Legs), ListText(st.Joined))
+			optional(round1(st.AtM), st.Span != ""), st.Status, st.Type, st.Purpose, ListText(st.Legs), ListText(st.Joined), round1(st.CoiledM))
 	}
 
 	// Buildings and their entrances.

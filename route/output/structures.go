@@ -60,6 +60,11 @@ type Structure struct {
 	// the crew sets a splice closure and the next reel starts there), "link/leg", in leg
 	// order; empty where none is.
 	Joined []string
+	// CoiledM is the cable coiled there, in metres over every cable: a slack loop
+	// (design.slack_loop_structure_m) for each cable of each leg whose structures passed hold
+	// it, and the splicing slack at both ends of each cable joined there (routing.CableTakeoff.
+	// SlackAtJoinM), which the crew stores with the closure. 0 where nothing is coiled.
+	CoiledM float64
 }
 
 // Place is where a structure is, for a person: its id, or "new handhole on SPAN, LENGTH from
@@ -138,7 +143,8 @@ func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 		id, span string
 		atM      float64
 	}
-	passed, joined := map[place][]string{}, map[place][]string{}
+	passed, joined, coiled := map[place][]string{}, map[place][]string{}, map[place]float64{}
+	loopM := r.Plan.Design.SlackLoopStructureM
 	for i := range r.Legs {
 		l := &r.Legs[i]
 		if !l.Feasible {
@@ -154,13 +160,18 @@ func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 			addTo(atJunction, sp.To, label)
 			addTo(onSpan, st.SpanID, label)
 		}
+		cables := float64(l.Cable.Cables)
 		for _, p := range l.Cable.Passed {
 			k := place{p.ID, p.Span, p.AtM}
 			passed[k] = append(passed[k], label) // each structure once in a leg's list
+			coiled[k] += loopM * cables
 		}
-		for _, p := range l.Cable.Splices { // in structures passed, but a splice point to build
-			if k := (place{p.ID, p.Span, p.AtM}); !p.NoStructure && !slices.Contains(joined[k], label) {
-				joined[k] = append(joined[k], label)
+		for _, p := range l.Cable.Splices { // in structures passed, but a splice point to build (below)
+			if k := (place{p.ID, p.Span, p.AtM}); !p.NoStructure {
+				if !slices.Contains(joined[k], label) {
+					joined[k] = append(joined[k], label)
+				}
+				coiled[k] += l.Cable.SlackAtJoinM() * cables
 			}
 		}
 	}
@@ -191,7 +202,7 @@ func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 			return nil, fmt.Errorf("handhole at %s: not a junction of the network", h.Junction)
 		}
 		add(Structure{ID: h.Junction, Status: StructureToBuild, Type: geo.StructureHandhole, Purpose: h.Purpose(),
-			Point: j.Point, Legs: legsAt(place{id: h.Junction}), Joined: joined[place{id: h.Junction}]})
+			Point: j.Point, Legs: legsAt(place{id: h.Junction}), Joined: joined[place{id: h.Junction}], CoiledM: coiled[place{id: h.Junction}]})
 	}
 	if r.Estimate != nil {
 		for _, h := range r.Estimate.Construction.RunHandholes {
@@ -200,7 +211,8 @@ func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 				return nil, fmt.Errorf("handhole along new construction on %s: not a span of the network", h.Span)
 			}
 			add(Structure{Span: h.Span, AtM: h.AtM, End: net.EndName(sp.From), Status: StructureToBuild, Type: geo.StructureHandhole, Purpose: PurposeRun,
-				Point: sp.PointAt(h.AtM), Legs: legsAt(place{span: h.Span, atM: h.AtM}), Joined: joined[place{span: h.Span, atM: h.AtM}]})
+				Point: sp.PointAt(h.AtM), Legs: legsAt(place{span: h.Span, atM: h.AtM}), Joined: joined[place{span: h.Span, atM: h.AtM}],
+				CoiledM: coiled[place{span: h.Span, atM: h.AtM}]})
 		}
 	}
 	for _, p := range pulls {
@@ -225,11 +237,18 @@ func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 	}
 	for _, sp := range splicePointsOnSpans(r) {
 		legs := make([]string, 0, len(sp.Legs))
+		coiledM, at := 0.0, sp.At.Text(estimate.MetresText) // the estimate's one place a text
 		for _, i := range sp.Legs {
-			legs = append(legs, r.Legs[i].Label())
+			l := &r.Legs[i]
+			legs = append(legs, l.Label())
+			for _, p := range l.Cable.Splices {
+				if p.NoStructure && p.Text(estimate.MetresText) == at {
+					coiledM += l.Cable.SlackAtJoinM() * float64(l.Cable.Cables)
+				}
+			}
 		}
 		add(Structure{Span: sp.At.Span, AtM: sp.At.AtM, End: sp.At.End, Status: StructureToBuild, Type: sp.typ, Purpose: PurposeSplice,
-			Point: sp.point, Legs: legs, Joined: legs})
+			Point: sp.point, Legs: legs, Joined: legs, CoiledM: coiledM})
 	}
 	// Existing structures passed, with what is done there.
 	pulled := map[string]bool{}
@@ -259,7 +278,7 @@ func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 			what = append(what, PurposePassed)
 		}
 		add(Structure{ID: st.ID, Status: StructureExisting, Type: st.Type, Purpose: strings.Join(what, ", "),
-			Point: st.Point, Legs: legs, Joined: joined[place{id: st.ID}]})
+			Point: st.Point, Legs: legs, Joined: joined[place{id: st.ID}], CoiledM: coiled[place{id: st.ID}]})
 	}
 	return out, nil
 }

@@ -12,6 +12,7 @@ import (
 	"spanwright/geo"
 	"spanwright/route/internal/testplan"
 	"spanwright/route/internal/testsite"
+	"spanwright/route/plan"
 )
 
 // TestStructuresOfDemo holds the structures table of the demo to the figures the bill and
@@ -175,8 +176,8 @@ func TestListCell(t *testing.T) {
 // links.csv's structures_passed counts (routing.CableTakeoff.Passed), none twice; its slack
 // loops at them are that count times design.slack_loop_structure_m, one loop at each
 // maintenance hole or handhole passed (README; a slack loop is stored in each structure the
-// cable passes: TIA-758-B, from memory), and links.csv's slack_loops_m adds the service coils
-// and entrance loops. And the terminal's count of turn handholes with the turns in handholes
+// cable passes: TIA-758-B, from memory), and links.csv's slack_loops_m adds the service coils,
+// the entrance loops and the splicing slack of its joins (2 × design.splice_slack_m a join). And the terminal's count of turn handholes with the turns in handholes
 // added for another purpose names as many junctions as links.csv's turns (finding 7).
 func TestStructuresTableIsTheSchedule(t *testing.T) {
 	t.Parallel()
@@ -232,7 +233,7 @@ func TestStructuresTableIsTheSchedule(t *testing.T) {
 					t.Errorf("%s: structure loops %.2f m, want %d × %.2f m", label, l.Cable.StructureLoopM, len(passed), d.SlackLoopStructureM)
 				}
 				slack, err := strconv.ParseFloat(row[col("slack_loops_m")], 64)
-				if want := l.Cable.EndSlackM + l.Cable.EntranceLoopM + float64(len(passed))*d.SlackLoopStructureM; err != nil || math.Abs(slack-want) > 0.05 {
+				if want := l.Cable.EndSlackM + l.Cable.EntranceLoopM + float64(len(passed))*d.SlackLoopStructureM + 2*d.SpliceSlackM*float64(l.Cable.Joins); err != nil || math.Abs(slack-want) > 0.05 {
 					t.Errorf("%s: slack_loops_m %q, want %.1f", label, row[col("slack_loops_m")], want)
 				}
 				for _, j := range l.Turns {
@@ -307,5 +308,72 @@ func TestRunHandholeNamesItsEnd(t *testing.T) {
 	}
 	if runs != 3 {
 		t.Errorf("%d handholes along the new duct, want 3 (590 m at 150 m spacing)", runs)
+	}
+}
+
+// TestStructuresCoiled: the structures table's "coiled there" is what the crew racks in each
+// structure over every cable: a slack loop of design.slack_loop_structure_m per cable of each
+// leg whose structures passed hold it (TIA-758-B, from memory: slack is stored in the
+// structures a cable passes), and at a mid-span join the splicing slack of both cable ends,
+// 2 × design.splice_slack_m per cable (common practice, no published source: the join is made
+// above ground and the slack stored with the closure). The demo on 400 m reels, where joins go
+// in maintenance holes, handholes and splice points to build: each row is worked out again
+// from the legs' own lists, and the rows add up to every leg's loops and splicing slack but
+// that of joins off the spans (in a riser, slack loop or lateral), which have no row.
+func TestStructuresCoiled(t *testing.T) {
+	t.Parallel()
+	r := testplan.DemoDesign(t, func(d *plan.Design) { d.ReelM = 400 })
+	d := r.Plan.Design
+	sts, err := StructuresOf(r)
+	if err != nil {
+		t.Fatal(err)
+	}
+	type key struct {
+		id, span string
+		atM      float64
+	}
+	want, total, joinsThere := map[key]float64{}, 0.0, 0
+	for i := range r.Legs {
+		l := &r.Legs[i]
+		if !l.Feasible {
+			continue
+		}
+		cables := float64(l.Cable.Cables)
+		for _, p := range l.Cable.Passed {
+			want[key{p.ID, p.Span, p.AtM}] += d.SlackLoopStructureM * cables
+			total += d.SlackLoopStructureM * cables
+		}
+		for _, p := range l.Cable.Splices {
+			k := key{p.ID, p.Span, p.AtM}
+			if p.NoStructure {
+				if p.Span == "" {
+					continue // off the spans: no row
+				}
+				k = key{"", p.Span, math.Round(p.AtM*10) / 10}
+			}
+			want[k] += 2 * d.SpliceSlackM * cables
+			total += 2 * d.SpliceSlackM * cables
+			joinsThere++
+		}
+	}
+	if joinsThere == 0 {
+		t.Fatal("the case needs joins in structures")
+	}
+	sum, joinRows := 0.0, 0
+	for _, st := range sts {
+		k := key{st.ID, st.Span, st.AtM}
+		if st.Purpose == PurposeSplice {
+			k.atM = math.Round(st.AtM*10) / 10
+		}
+		if math.Abs(st.CoiledM-want[k]) > 1e-6 {
+			t.Errorf("%s (%s): coiled %.1f m, want %.1f", st.Place(metresOf), st.Purpose, st.CoiledM, want[k])
+		}
+		if len(st.Joined) > 0 {
+			joinRows++
+		}
+		sum += st.CoiledM
+	}
+	if math.Abs(sum-total) > 1e-6 || joinRows == 0 {
+		t.Errorf("coiled over the table %.1f m, want %.1f (%d rows with joins)", sum, total, joinRows)
 	}
 }

@@ -126,10 +126,15 @@ type Design struct {
 	SlackLoopEntranceM  float64 `yaml:"slack_loop_entrance_m"`  // slack loop at each building entrance, in metres
 	SlackLoopStructureM float64 `yaml:"slack_loop_structure_m"` // slack loop at each maintenance hole or handhole passed, in metres
 	ReelM               float64 `yaml:"reel_m"`                 // longest cable on one reel, in metres; longer runs get mid-span splices
-	PullMu              float64 `yaml:"pull_mu"`                // coefficient of friction between cable and duct
-	PullBendDeg         float64 `yaml:"pull_bend_deg"`          // most bend degrees between pull points
-	PullMaxM            float64 `yaml:"pull_max_m"`             // most metres between pull points; 0 for no limit
-	PullMaxSWBPNPerM    float64 `yaml:"pull_max_swbp_n_per_m"`  // most sidewall bearing pressure at a bend, N/m; 0: not checked
+	// SpliceSlackM is the splicing slack per cable end at a mid-span join between reels, in
+	// metres: the join is made above ground beside the structure (in a splicing vehicle or
+	// tent), so each end reaches up to it and is coiled in the structure with the closure
+	// afterwards. Each join puts 2 × SpliceSlackM more in the cable bought and in the channel.
+	SpliceSlackM     float64 `yaml:"splice_slack_m"`
+	PullMu           float64 `yaml:"pull_mu"`               // coefficient of friction between cable and duct
+	PullBendDeg      float64 `yaml:"pull_bend_deg"`         // most bend degrees between pull points
+	PullMaxM         float64 `yaml:"pull_max_m"`            // most metres between pull points; 0 for no limit
+	PullMaxSWBPNPerM float64 `yaml:"pull_max_swbp_n_per_m"` // most sidewall bearing pressure at a bend, N/m; 0: not checked
 
 	// New construction: how a proposed pathway is built when the plan opens it.
 	NewDucts         int     `yaml:"new_ducts"`          // ducts laid in each new trench or bore of a duct pathway, at least (items.NewDucts)
@@ -211,6 +216,10 @@ var Default = Plan{
 		SlackLoopEntranceM:  3,
 		SlackLoopStructureM: 3,
 		ReelM:               4000,
+		// Common practice, no published source: 10–15 m of splicing slack a cable end at a
+		// mid-span join (from memory); the upper end, so that a leg near its loss budget or its
+		// reel is not called feasible on slack the crew will leave.
+		SpliceSlackM: 15,
 		// μ 0.5 is the usual default when the duct and lubricant are unknown (cable pulling
 		// statics, see REFERENCES); TIA-569 allows at most 180° of bends between pull points.
 		// TIA-569's 30 m between pull points applies to conduit in buildings, so campus duct
@@ -409,6 +418,12 @@ func (p *Plan) validate(errs *input.Problems) {
 	if !reported("design.handhole_spacing_m") && g.HandholeSpacingM > 0 && g.HandholeSpacingM < MinHandholeSpacingM {
 		bad("design.handhole_spacing_m", input.ErrBadValue, "want 0 (no limit) or at least %g metres, got %g", float64(MinHandholeSpacingM), g.HandholeSpacingM)
 	}
+	// A reel between two joins carries the splicing slack at both its ends, and some cable
+	// besides, or no number of reels would reach.
+	if !reported("design.splice_slack_m", "design.reel_m", "design.waste_pct") && 2*g.SpliceSlackM >= g.ReelM/(1+g.WastePct/100) {
+		bad("design.splice_slack_m", input.ErrBadValue, "want less than half of the channel a reel carries (reel_m / (1 + waste_pct/100) / 2 = %.2f metres), got %g",
+			g.ReelM/(1+g.WastePct/100)/2, g.SpliceSlackM)
+	}
 	switch {
 	case reported("design.innerduct_od_mm", "design.innerduct_id_mm"):
 	case g.InnerductODMM == 0 && g.InnerductIDMM != 0:
@@ -453,6 +468,7 @@ var planNumbers = []planNumber{
 	{key: "design.slack_loop_structure_m", r: input.Range{Min: 0, Max: 1000, Unit: "metres"}},
 	// A copper channel cannot be spliced, so a reel holds one at least.
 	{key: "design.reel_m", r: input.Range{Min: MaxCopperChannelM, Max: 100000, Unit: "metres"}},
+	{key: "design.splice_slack_m", r: input.Range{Min: 0, Max: 1000, Unit: "metres"}},
 	{key: "design.pull_mu", r: input.Range{Min: 0, Max: 2, Unit: "a coefficient of friction"}},
 	// NFPA 70 allows 360° of bends per raceway run.
 	{key: "design.pull_bend_deg", r: input.Range{Min: 0, AboveMin: true, Max: 360, Unit: "degrees"}},

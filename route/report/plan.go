@@ -179,6 +179,7 @@ type structureRow struct {
 	Lon, Lat              string
 	Legs                  string
 	Joined                string // the legs with a mid-span join there (output.Structure.Joined)
+	Coiled                string // the cable coiled there (output.Structure.CoiledM), in the page's unit; "" for none
 	ToBuild               bool
 }
 
@@ -595,6 +596,9 @@ func structureRows(sts []output.Structure, opt Options) ([]structureRow, listed)
 		out[i] = structureRow{Mark: st.Mark, Place: st.Place(opt.lengthU), Status: st.Status, Type: st.Type, Purpose: st.Purpose,
 			Lon: strconv.FormatFloat(st.Point[0], 'f', 7, 64), Lat: strconv.FormatFloat(st.Point[1], 'f', 7, 64), Legs: strings.Join(legs, ", ") + more,
 			Joined: strings.Join(joined, ", ") + moreJoined, ToBuild: st.Status == output.StructureToBuild}
+		if st.CoiledM > 0 {
+			out[i].Coiled = opt.lengthU(st.CoiledM)
+		}
 	}
 	return out, shown
 }

@@ -825,7 +825,11 @@ func (m *Model) addOption(s *site.Site, dm *optimize.Demand, info *demandInfo, m
 
 // reachM is the longest channel, in metres, over which medium carries a link of facts with
 // the splices the plan puts in a channel that long: the mid-span splices between reels of
-// design.reel_m (reels) and, outside, the repair splices of the margin policy. Each is loss in
+// design.reel_m (reels) and, outside, the repair splices of the margin policy. The splicing
+// slack those joins take (spliceSlackM) is fibre in the channel too, so it is counted and
+// then left out of the length returned (CableTakeoff.beforeJoinsM), as the ends' coils are
+// left out by the caller: a channel that closes its budget only without that slack is beyond
+// reach. Each is loss in
 // the budget (ANSI/TIA-568.3-D: 0.3 dB a fusion splice), so a long single-mode channel
 // reaches less than media.Engine.MaxChannelM says for an inside link with no splices (issue
 // 16: 17,760 m of route quoted with neither; 12,000 m with the three reel splices and the
@@ -860,16 +864,18 @@ func (m *Model) reachM(s *site.Site, medium string, lay media.Laying, rate, futu
 }
 
 // reachWithJoinsM is reachM on the facts as they are. R(n), the engine's longest channel
-// with n splices more, falls as n grows while joinsUpToM(n) grows, so the reach is in the band
-// of the first n with R(n) ≤ joinsUpToM(n): R(n) there, or the top of the band below when
-// R(n) falls short of it (that band's channels all close). That n is at most the joins of a
-// channel R(0) long, and is found counting down from there: a few of the engine's answers,
-// not one per band.
+// with n splices more, less the splicing slack of n joins, falls as n grows while
+// joinsUpToM(n) (the splicing slack likewise left out) grows, so the reach is in the band of
+// the first n with R(n) ≤ joinsUpToM(n): R(n) there, or the top of the band below when R(n)
+// falls short of it (that band's channels all close). That n is at most the joins of a channel
+// R(0) long, and is found counting down from there: a few of the engine's answers, not one per
+// band.
 func (m *Model) reachWithJoinsM(s *site.Site, medium string, lay media.Laying, rate, future float64, facts media.Link) float64 {
-	base := facts.Splices
+	base, slackM := facts.Splices, facts.SlackM
 	at := func(n int) float64 {
-		facts.Splices = base + n
-		return s.Reaches.MaxChannelMAs(m.eng, medium, lay, rate, future, facts) // shared by a sweep's price books
+		joinsM := spliceSlackM(m.design, n)
+		facts.Splices, facts.SlackM = base+n, slackM+joinsM
+		return s.Reaches.MaxChannelMAs(m.eng, medium, lay, rate, future, facts) - joinsM // shared by a sweep's price books
 	}
 	r0 := at(0)
 	if r0 <= joinsUpToM(m.design, 0) {

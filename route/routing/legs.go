@@ -278,16 +278,21 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 		facts.PathwayTypes = append(facts.PathwayTypes, t)
 	}
 	sort.Strings(facts.PathwayTypes)
-	// The installation's slack loops and reel joins go into the loss budget.
+	// The installation's slack loops, reel joins and their splicing slack go into the loss
+	// budget, the slack as the entrances' coils do (media.Link.SlackM).
 	leg.Cable = takeoff(s, cm.design, leg, built)
-	facts.SlackM, facts.Splices = leg.Cable.SlackM(), facts.Splices+leg.Cable.Joins
+	splices := facts.Splices
+	withCable := func(f media.Link, t CableTakeoff) media.Link {
+		f.SlackM, f.Splices = t.SlackM(), splices+t.Joins
+		return f
+	}
+	facts = withCable(facts, leg.Cable)
 	ch := cm.eng.Choose(facts)
 	if !ch.Feasible {
 		// Joins in structures may take one more than the cable's length does; at the reels'
 		// ends (splice points to build) the loss budget may close.
 		if alt, fewer := leg.Cable.joinsAtReelEnds(cm.design); fewer {
-			f := facts
-			f.Splices -= leg.Cable.Joins - alt.Joins
+			f := withCable(facts, alt)
 			if again := cm.eng.Choose(f); again.Feasible {
 				leg.Cable, facts, ch = alt, f, again
 			}
@@ -306,13 +311,14 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 		// plan's strands would round up to (ANSI/TIA-568.2: a 4-pair cable serves one port).
 		leg.StrandsCable = PairsPerCable * leg.Cable.Cables
 	}
-	if joins := leg.Cable.Joins; ch.Inside != "" {
+	if ch.Inside != "" {
 		// With an entrance transition the reels are the outside cable's (cutOutside): fewer
-		// joins there are fewer splices in the loss budget, which the engine checks again; if
-		// it then chooses otherwise, the first choice stands, measured over the whole cable.
+		// joins there are fewer splices and less splicing slack in the loss budget, which the
+		// engine checks again; if it then chooses otherwise, the first choice stands, measured
+		// over the whole cable.
 		whole := leg.Cable
 		if leg.Cable.cutOutside(cm.design) {
-			facts.Splices -= joins - leg.Cable.Joins
+			facts = withCable(facts, leg.Cable)
 			again := cm.eng.Choose(facts)
 			if again.Feasible && again.Medium == ch.Medium && again.Construction == ch.Construction && again.Inside == ch.Inside {
 				ch = again

@@ -74,3 +74,100 @@ func TestJoinsAtReelEnds(t *testing.T) {
 		t.Error("joins at the reels' ends again: want no change")
 	}
 }
+
+// TestPlaceJoinsSpliceSlack: each cable end at a mid-span join carries design.splice_slack_m
+// of splicing slack (the join is made above ground beside the structure and the slack is
+// coiled there with the closure; common practice, no published source: 10–15 m an end, from
+// memory), so a reel reaches splice_slack_m less before a join at its end, 2 × less between
+// two joins, and each reel is cut with the slack of its joined ends. TestPlaceJoins's campus
+// with 5 m of splicing slack: HH-2 (90 m, within 100 − 5), J7 (150 m, within 90 + 100 − 10),
+// then a splice point at 240 m (150 + 100 − 10; MH-3 at 260 m is beyond it and its waste),
+// 60 m into A-1 from its MH-9 end.
+func TestPlaceJoinsSpliceSlack(t *testing.T) {
+	d := plan.Design{ReelM: 105, WastePct: 5, SlackLoopStructureM: 3, SpliceSlackM: 5}
+	passes := []SplicePoint{{ID: "MH-1", ChannelM: 30}, {ID: "HH-2", ChannelM: 90}, {ID: "J7", Added: true, ChannelM: 150}, {ID: "MH-3", ChannelM: 260}}
+	sp := &geo.Span{ID: "A-1", LengthM: 200}
+	spans := []spanOnChannel{{span: sp, fromEnd: "MH-9", reverse: true, startM: 100}}
+	splices, reelsM := placeJoins(d, passes, spans, 300, 315, "B1")
+	var at []string
+	for _, p := range splices {
+		at = append(at, p.Text(func(m float64) string { return strconv.FormatFloat(m, 'f', 1, 64) + " m" }))
+	}
+	if want := []string{"HH-2", "J7 (handhole to add)", "no structure: on A-1, 60.0 m from the MH-9 end"}; !slices.Equal(at, want) {
+		t.Errorf("joins at %q, want %q", at, want)
+	}
+	// 90 + 5, 60 + 10, 90 + 10 and 60 + 5 m with 5 % waste, each up to a whole metre: every
+	// reel within its 105 m.
+	if wantM := []float64{100, 74, 105, 69}; !slices.Equal(reelsM, wantM) {
+		t.Errorf("reels %v, want %v", reelsM, wantM)
+	}
+	tk := CableTakeoff{ChannelM: 300}
+	if got := tk.setReels(d, splices, reelsM); got != 348 || tk.SpliceSlackM != 30 || tk.ChannelM != 330 || tk.beforeJoinsM() != 300 || tk.SlackM() != 30 {
+		t.Errorf("takeoff: bought %.0f m, splicing slack %.0f m, channel %.0f m, slack %.0f m; want 348, 30 (3 joins × 2 × 5), 330, 30", got, tk.SpliceSlackM, tk.ChannelM, tk.SlackM())
+	}
+}
+
+// TestPlaceJoinsCarriedOn: where no structure lies within a reel's reach, a structure just
+// beyond it that the reel's whole length reaches (its waste spent) takes the join, and the
+// piece is cut to the whole reel; without that the join was a splice point to build 2 m short
+// of the structure, where the next reel, reaching no other, was joined again (review 12b:
+// two joins 0.8 m apart on 120 m reels). A structure beyond the reel's whole length does not.
+// Common practice, no published source: a crew carries the reel on to the structure.
+func TestPlaceJoinsCarriedOn(t *testing.T) {
+	d := plan.Design{ReelM: 105, WastePct: 5, SlackLoopStructureM: 3} // 100 m of channel a reel
+	for _, tc := range []struct {
+		name   string
+		atM    float64
+		joins  []string
+		reelsM []float64
+	}{
+		{"within the reel's waste", 102, []string{"HH-1", "no structure: 202.0 m along the cable from B1"}, []float64{105, 105, 51}},
+		{"on the reel's last metre", 105, []string{"HH-1", "no structure: 205.0 m along the cable from B1"}, []float64{105, 105, 48}},
+		{"beyond the whole reel", 106, []string{"no structure: 100.0 m along the cable from B1", "HH-1", "no structure: 206.0 m along the cable from B1"}, []float64{105, 7, 105, 47}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			splices, reelsM := placeJoins(d, []SplicePoint{{ID: "HH-1", ChannelM: tc.atM}}, nil, 250, 263, "B1")
+			var at []string
+			for _, p := range splices {
+				at = append(at, p.Text(func(m float64) string { return strconv.FormatFloat(m, 'f', 1, 64) + " m" }))
+			}
+			if !slices.Equal(at, tc.joins) || !slices.Equal(reelsM, tc.reelsM) {
+				t.Errorf("%s: joins %q, reels %v; want %q, %v", tc.name, at, reelsM, tc.joins, tc.reelsM)
+			}
+			for _, m := range reelsM {
+				if m > d.ReelM {
+					t.Errorf("%s: a piece of %.0f m on a %.0f m reel", tc.name, m, d.ReelM)
+				}
+			}
+		})
+	}
+}
+
+// TestJoinsByLengthWithSlack: the joins the length alone takes (reels, joinsUpToM: the
+// optimizer's reach) count the splicing slack of those joins, and agree with the joins placed
+// at the reels' ends (placeJoins with no structure): a channel up to joinsUpToM(n) takes n
+// joins, one a metre longer n + 1. Each join's slack is fibre on a reel, so 30 m of slack a
+// join on 105 m reels (100 m of channel each) leaves 70 m of route to a reel between joins.
+func TestJoinsByLengthWithSlack(t *testing.T) {
+	d := plan.Design{ReelM: 105, WastePct: 5, SpliceSlackM: 15}
+	for n := 0; n < 6; n++ {
+		upM := joinsUpToM(d, n)
+		if want := 100*float64(n+1) - 30*float64(n); upM > want+1e-6 || upM < want-0.01 {
+			t.Errorf("joinsUpToM(%d) = %.3f m, want %.0f (%d reels of 100 m less %d × 30 m)", n, upM, want, n+1, n)
+		}
+		for _, x := range []float64{upM - 1, upM, upM + 1} {
+			_, reels := reels(d, x)
+			splices, _ := placeJoins(d, nil, nil, x, 0, "B1")
+			wantN := n
+			if x > upM {
+				wantN = n + 1
+			}
+			if reels-1 != wantN || len(splices) != wantN {
+				t.Errorf("%.3f m: %d joins by length, %d placed; want %d", x, reels-1, len(splices), wantN)
+			}
+		}
+	}
+	if got := spliceSlackM(d, 3); got != 90 {
+		t.Errorf("3 joins' splicing slack: %.0f m, want 90", got)
+	}
+}

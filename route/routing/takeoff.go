@@ -1,6 +1,7 @@
 package routing
 
 import (
+	"fmt"
 	"math"
 	"slices"
 
@@ -25,15 +26,19 @@ type CableTakeoff struct {
 	Structures      int
 	AddedStructures int
 	StructureLoopM  float64 // slack loops at those structures
-	// ChannelM is route (laterals included) + risers + every slack loop: the length the loss
-	// budget counts.
+	// SpliceSlackM is the splicing slack at the mid-span joins (spliceSlackM: design.splice_slack_m
+	// at each of the two cable ends a join makes), coiled in the structure with the closure.
+	SpliceSlackM float64
+	// ChannelM is route (laterals included) + risers + every slack loop and the splicing
+	// slack: the length the loss budget counts.
 	ChannelM float64
 	WasteM   float64 // design.waste_pct of ChannelM
-	LengthM  float64 // the length bought: ChannelM + WasteM rounded up to a whole metre
+	LengthM  float64 // the length bought: ChannelM + WasteM rounded up to a whole metre; with joins the reels' cuts added up (ReelsM)
 	Reels    int     // reels of at most design.reel_m that LengthM takes
 	Joins    int     // mid-span splices between reels; each strand's path crosses every one
 	// Splices are where the Joins go, in travel order from the served building (placeJoins);
-	// ReelsM the length cut from each reel, in metres (whole metres, with waste), which sum to
+	// ReelsM the length cut from each reel, in metres (whole metres, with waste, the splicing
+	// slack at its joined ends included), which sum to
 	// LengthM, or with an entrance transition to OutsideLengthM: the joins are then placed and
 	// the reels cut over the outside-plant cable only (cutOutside). One reel without joins.
 	Splices []SplicePoint
@@ -95,8 +100,30 @@ func (t CableTakeoff) Enclosures(transition bool) int {
 	return n
 }
 
-// SlackM is every slack loop of the leg, in metres.
-func (t CableTakeoff) SlackM() float64 { return t.EndSlackM + t.EntranceLoopM + t.StructureLoopM }
+// SlackM is every slack loop of the leg and the splicing slack at its joins, in metres.
+func (t CableTakeoff) SlackM() float64 {
+	return t.EndSlackM + t.EntranceLoopM + t.StructureLoopM + t.SpliceSlackM
+}
+
+// SlackAtJoinM is the splicing slack of one join, both cable ends, in metres: 2 ×
+// design.splice_slack_m (0 without joins), coiled in the join's structure with the closure.
+func (t CableTakeoff) SlackAtJoinM() float64 {
+	if t.Joins == 0 {
+		return 0
+	}
+	return t.SpliceSlackM / float64(t.Joins)
+}
+
+// beforeJoinsM is the channel without the splicing slack at the joins, in metres: what the
+// structures passed and the spans are placed along (SplicePoint.ChannelM), and what placeJoins
+// places the joins over.
+func (t CableTakeoff) beforeJoinsM() float64 { return t.ChannelM - t.SpliceSlackM }
+
+// spliceSlackM is the splicing slack, in metres, of a cable with joins mid-span joins:
+// design.splice_slack_m at each of the two cable ends each join makes. The one figure the
+// takeoff (setReels), the joins by length (reels, joinsUpToM) and the optimizer's reach
+// (Model.reachWithJoinsM) count.
+func spliceSlackM(d plan.Design, joins int) float64 { return float64(2*joins) * d.SpliceSlackM }
 
 // takeoff measures a routed leg's cable before its medium is known: slack loops, channel,
 // waste and reels. The rule engine then decides on the channel and the reel joins (fed back
@@ -112,23 +139,28 @@ func takeoff(s *site.Site, d plan.Design, leg *Leg, built builtOn) CableTakeoff 
 		}
 	}
 	t.StructureLoopM = float64(t.Structures) * d.SlackLoopStructureM
-	t.ChannelM = leg.RouteM + leg.RiserM + t.SlackM()
-	t.WasteM = t.ChannelM * d.WastePct / 100
-	t.LengthM, _ = reels(d, t.ChannelM)
+	t.ChannelM = leg.RouteM + leg.RiserM + t.SlackM() // no joins yet: setReels adds their slack
 	served := ""
 	if leg.Link != nil {
 		served = leg.Link.To
 	}
 	t.spans, t.served = spans, served
-	t.LengthM = t.setReels(placeJoins(d, passes, spans, t.ChannelM, t.LengthM, served))
+	lengthM, _ := reels(d, t.ChannelM)
+	splices, reelsM := placeJoins(d, passes, spans, t.ChannelM, lengthM, served)
+	t.LengthM = t.setReels(d, splices, reelsM)
 	return t
 }
 
 // setReels sets the takeoff's mid-span splices and reels (placeJoins' answer; one reel of the
-// whole length without joins) and returns the metres bought on them, the reels added up.
-func (t *CableTakeoff) setReels(splices []SplicePoint, reelsM []float64) float64 {
+// whole length without joins), the splicing slack of those joins in the channel and its waste,
+// and returns the metres bought on the reels, added up.
+func (t *CableTakeoff) setReels(d plan.Design, splices []SplicePoint, reelsM []float64) float64 {
+	beforeM := t.beforeJoinsM()
 	t.Splices, t.ReelsM = splices, reelsM
 	t.Joins, t.Reels = len(splices), len(reelsM)
+	t.SpliceSlackM = spliceSlackM(d, t.Joins)
+	t.ChannelM = beforeM + t.SpliceSlackM
+	t.WasteM = t.ChannelM * d.WastePct / 100
 	var sum float64
 	for _, m := range reelsM {
 		sum += m
@@ -143,15 +175,15 @@ func (t *CableTakeoff) setReels(splices []SplicePoint, reelsM []float64) float64
 // placing every splice in a structure adds; fillLeg asks for it only when the loss budget
 // fails with the joins in structures.
 func (t CableTakeoff) joinsAtReelEnds(d plan.Design) (CableTakeoff, bool) {
-	lengthM, _ := reels(d, t.ChannelM)
-	splices, reelsM := placeJoins(d, nil, t.spans, t.ChannelM, lengthM, t.served)
+	lengthM, _ := reels(d, t.beforeJoinsM())
+	splices, reelsM := placeJoins(d, nil, t.spans, t.beforeJoinsM(), lengthM, t.served)
 	if len(splices) >= t.Joins {
 		return t, false
 	}
 	for i := range splices {
 		splices[i].AtReelEnd = true
 	}
-	t.LengthM = t.setReels(splices, reelsM)
+	t.LengthM = t.setReels(d, splices, reelsM)
 	return t, true
 }
 
@@ -173,7 +205,8 @@ type SplicePoint struct {
 	// length does, and the loss budget would not close.
 	AtReelEnd bool
 	// ChannelM is where it is along the channel, in metres from the served building's end of
-	// the cable (its riser, coil and entrance loop first).
+	// the cable (its riser, coil and entrance loop first), the splicing slack at joins before
+	// it not counted (CableTakeoff.beforeJoinsM): where the route puts it.
 	ChannelM float64
 }
 
@@ -349,73 +382,114 @@ func locate(spans []spanOnChannel, loopM, atM float64) (string, float64, string,
 	return "", 0, "", false
 }
 
-// placeJoins places the mid-span splices of a channel channelM metres long whose structures
-// passed are passes (passesOf, in travel order) and cuts its reels: a reel of design.reel_m
-// carries reel_m / (1 + waste_pct/100) metres of channel (the waste spread over its length),
-// and each join goes in the last structure passed at or before where its reel runs out (a
-// splice closure is stored in a maintenance hole or handhole with its slack: TIA-758-B, from
-// memory), the next reel starting there; where no structure lies within a reel's reach the
-// join is at its reel's end, NoStructure, by its distance along the cable from the served
-// building. Each reel is cut to its channel with waste in whole metres (ReelsM); without joins
-// the one reel is lengthM. So the joins, which the bill counts and the loss budget takes as
-// splices, are the placed ones: as many as reels(channelM) gives by length, or more where
-// structures are far apart.
+// placeJoins places the mid-span splices of a channel channelM metres long (before the
+// splicing slack of its joins, CableTakeoff.beforeJoinsM) whose structures passed are passes
+// (passesOf, in travel order) and cuts its reels: a reel of design.reel_m carries reel_m / (1 +
+// waste_pct/100) metres of channel (the waste spread over its length), the splicing slack at its
+// joined ends included (design.splice_slack_m each: a reel between two joins carries twice that
+// less of the route). Each join goes in the last structure passed at or before where its reel
+// runs out (a splice closure is stored in a maintenance hole or handhole with its slack:
+// TIA-758-B, from memory), the next reel starting there. Where none lies within a reel's reach,
+// the join goes in the first structure passed beyond it that the reel's whole length reaches,
+// its waste spent (that piece cut to the whole reel): a crew carries the reel on to a
+// structure rather than build a splice point a few metres short of it, where the next reel
+// would be joined again (review 12b: 0.8 m apart on reels of 120 m; common practice, no
+// published source). Failing that, the join is at its reel's end, NoStructure, by its
+// distance along the cable from the served building. Each reel is cut to its channel with waste in whole metres
+// (ReelsM), at most reel_m; without joins the one reel is lengthM. So the joins, which the
+// bill counts and the loss budget takes as splices, are the placed ones: as many as
+// reels(channelM) gives by length, or more where structures are far apart.
 func placeJoins(d plan.Design, passes []SplicePoint, spans []spanOnChannel, channelM, lengthM float64, served string) (splices []SplicePoint, reelsM []float64) {
 	if d.ReelM <= 0 {
 		return nil, []float64{lengthM}
 	}
-	capM := d.ReelM / (1 + d.WastePct/100)
-	start := 0.0
-	for channelM-start > capM+1e-9 {
+	capM := reelCarriesM(d)
+	slackM := d.SpliceSlackM
+	overM := d.ReelM - capM  // a reel's waste
+	start, headM := 0.0, 0.0 // where the reel starts, and the splicing slack at its start
+	for channelM-start+headM > capM+1e-9 {
+		endM := start + capM - headM - slackM // the farthest its join may be: the reel's end
 		best := -1
 		for i := range passes {
-			if at := passes[i].ChannelM; at > start+1e-9 && at <= start+capM+1e-9 {
+			if at := passes[i].ChannelM; at > start+1e-9 && at <= endM+1e-9 {
 				best = i
 			}
 		}
-		p := SplicePoint{ID: served, NoStructure: true, ChannelM: start + capM}
+		if best < 0 {
+			if i := slices.IndexFunc(passes, func(p SplicePoint) bool { return p.ChannelM > endM+1e-9 }); i >= 0 && passes[i].ChannelM <= endM+overM+1e-9 {
+				best = i
+			}
+		}
+		p := SplicePoint{ID: served, NoStructure: true, ChannelM: endM}
 		if best >= 0 {
 			p = passes[best]
 		} else if id, m, end, ok := locate(spans, d.SlackLoopStructureM, p.ChannelM); ok {
 			p.Span, p.AtM, p.End = id, m, end
 		}
 		splices = append(splices, p)
-		start = p.ChannelM
+		start, headM = p.ChannelM, slackM
 	}
 	if len(splices) == 0 {
 		return nil, []float64{lengthM}
 	}
 	prev := 0.0
-	for _, p := range append(slices.Clone(splices), SplicePoint{ChannelM: channelM}) {
-		reelsM = append(reelsM, math.Ceil((p.ChannelM-prev)*(1+d.WastePct/100)-1e-9))
+	for i, p := range append(slices.Clone(splices), SplicePoint{ChannelM: channelM}) {
+		pieceM := p.ChannelM - prev + 2*slackM // a reel between two joins
+		if i == 0 || i == len(splices) {
+			pieceM -= slackM // the first and the last have one joined end
+		}
+		cutM := math.Ceil(pieceM*(1+d.WastePct/100) - 1e-9)
+		if cutM > d.ReelM { // carried on to a structure on its waste
+			cutM = max(math.Floor(d.ReelM+1e-9), math.Ceil(pieceM-1e-9))
+		}
+		reelsM = append(reelsM, cutM)
 		prev = p.ChannelM
 	}
 	return splices, reelsM
 }
 
-// reels is the cable bought for a channel of channelM metres (with the design's waste,
-// rounded up to a whole metre) and the reels of at most design.reel_m it takes by length
-// alone: the mid-span splices (reels − 1) the optimizer's reach counts for a channel that
-// long (Model.reachM). A routed leg's joins are placed at its structures (placeJoins), which
-// can take more where they are far apart; the rule engine then decides on those.
+// reelCarriesM is the channel a reel of design.reel_m carries, in metres: reel_m / (1 +
+// waste_pct/100), the splicing slack at its joined ends included. It panics when that is no
+// more than the splicing slack at a reel's two ends (plan validation refuses such a design), for
+// then no number of reels reaches.
+func reelCarriesM(d plan.Design) float64 {
+	capM := d.ReelM / (1 + d.WastePct/100)
+	if 2*d.SpliceSlackM >= capM {
+		panic(fmt.Sprintf("routing: a reel of %g m carries %g m of channel, no more than the splicing slack at its two ends (2 × %g m)", d.ReelM, capM, d.SpliceSlackM))
+	}
+	return capM
+}
+
+// reels is the cable bought for a channel of channelM metres in one reel (with the design's
+// waste, rounded up to a whole metre) and the reels of at most design.reel_m it takes by length
+// alone, each join adding its splicing slack (spliceSlackM): the mid-span splices (reels − 1)
+// the optimizer's reach counts for a channel that long (Model.reachM). A routed leg's joins are
+// placed at its structures (placeJoins), which can take more where they are far apart; the rule
+// engine then decides on those.
 func reels(d plan.Design, channelM float64) (lengthM float64, n int) {
 	lengthM = math.Ceil(channelM + channelM*d.WastePct/100 - 1e-9)
 	n = 1
 	if d.ReelM > 0 { // a plan built in code may leave it 0: no reel limit
+		reelCarriesM(d) // each reel more takes less splicing slack than it carries, so this ends
 		n = max(1, int(math.Ceil(lengthM/d.ReelM-1e-9)))
+		for math.Ceil((channelM+spliceSlackM(d, n-1))*(1+d.WastePct/100)-1e-9) > float64(n)*d.ReelM+1e-9 {
+			n++
+		}
 	}
 	return lengthM, n
 }
 
 // joinsUpToM is the longest channel, in metres, whose cable takes at most joins mid-span
-// splices (reels); +Inf without a reel limit.
+// splices (reels), their splicing slack not counted (CableTakeoff.beforeJoinsM); +Inf without
+// a reel limit.
 func joinsUpToM(d plan.Design, joins int) float64 {
 	if d.ReelM <= 0 {
 		return math.Inf(1)
 	}
-	// The length bought is whole metres: at most (joins+1) reels of reel_m.
+	// The length bought is whole metres: at most (joins+1) reels of reel_m, the joins' splicing
+	// slack among them.
 	boughtM := math.Floor(float64(joins+1)*d.ReelM + 1e-9)
-	x := boughtM / (1 + d.WastePct/100)
+	x := boughtM/(1+d.WastePct/100) - spliceSlackM(d, joins)
 	for i := 0; i < 64; i++ { // the float division may land a hair above: step down to the last length that fits
 		if _, n := reels(d, x); n <= joins+1 {
 			break
@@ -469,7 +543,7 @@ func (t *CableTakeoff) cutOutside(d plan.Design) bool {
 		t.ReelsM = []float64{t.LengthM - t.InsideLengthM}
 		return false
 	}
-	startM, outM := t.insideToChM, t.ChannelM-t.insideToChM-t.insideFromChM
+	startM, outM := t.insideToChM, t.beforeJoinsM()-t.insideToChM-t.insideFromChM
 	if outM <= 0 {
 		return false
 	}
@@ -491,6 +565,6 @@ func (t *CableTakeoff) cutOutside(d plan.Design) bool {
 		splices[i].ChannelM += startM
 	}
 	changed := len(splices) != t.Joins
-	t.LengthM = t.InsideLengthM + t.setReels(splices, reelsM)
+	t.LengthM = t.InsideLengthM + t.setReels(d, splices, reelsM)
 	return changed
 }
