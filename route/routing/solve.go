@@ -46,8 +46,7 @@ type Routed struct {
 	ConstantCents int64
 	// StartUnused lists, in link order, the links whose routes in SolveFrom's start did not
 	// fit this plan (another network, hub or medium, a span gone, beyond reach, a duct with no
-	// room) and were
-	// placed afresh, each as its ID and why in brackets; nil without a start.
+	// room) and were placed afresh, each as its ID and why in brackets; nil without a start.
 	StartUnused []string
 	// StartNoRoom is how many of StartUnused were placed afresh because their cables found no
 	// room in the ducts of their start route (optimize.Solution.StartNoRoom).
