@@ -166,7 +166,7 @@ func SolveFrom(ctx context.Context, s *site.Site, p *plan.Plan, eng *media.Engin
 	if start != nil && rt.StartSame {
 		pr.notes = append(pr.notes, fmt.Sprintf("started from the routes of %s, a plan of this same routing problem (every route cost, rule and reach the optimizer sees is the same): this plan is that problem's own plan from scratch, as that one was, not a search from its routes", start.From))
 	} else if start != nil {
-		pr.notes = append(pr.notes, startNote(start, hub, links, rt.StartUnused)...)
+		pr.notes = append(pr.notes, startNote(start, hub, links, rt.StartUnused, rt.StartNoRoom)...)
 	}
 	r := &Result{Plan: p, Site: s, Hub: hub, Links: links, Legs: rt.Legs, Currency: eng.PriceBook().Currency, Engine: eng,
 		Opened: rt.Opened, Handholes: rt.Handholes, Fill: rt.Fill, ObjectiveCents: rt.ObjectiveCents, LowerBoundCents: rt.LowerBoundCents, Notes: pr.notes}
@@ -345,8 +345,9 @@ const startNoteLinks = 10
 // startNote is the note on the links whose start routes were placed afresh (none when every
 // route fitted), or, when the start has a route for none of the plan's links (another
 // campus's or another plan's folder, or a plan from another hub, as a sweep that varies the
-// hub starts from), the note that it was no start at all and why.
-func startNote(start *routing.Start, hub string, links []site.Link, unused []string) []string {
+// hub starts from), the note that it was no start at all and why. noRoom of the unused were
+// placed afresh for a duct with no room (routing.Routed.StartNoRoom), which the note counts.
+func startNote(start *routing.Start, hub string, links []site.Link, unused []string, noRoom int) []string {
 	in := map[string]bool{}
 	for _, l := range start.Legs {
 		in[l.Link] = true
@@ -367,9 +368,16 @@ func startNote(start *routing.Start, hub string, links []site.Link, unused []str
 	}
 	shown, more := input.Shown(unused, startNoteLinks)
 	names := strings.Join(shown, ", ") + more
-	what := fmt.Sprintf("%d links' routes there no longer fit this plan and were", len(unused))
+	what := fmt.Sprintf("%d links' routes there no longer fit this plan and were placed afresh", len(unused))
 	if len(unused) == 1 {
-		what = "1 link's route there no longer fits this plan and was"
+		what = "1 link's route there no longer fits this plan and was placed afresh"
 	}
-	return []string{fmt.Sprintf("started from the routes of %s: %s placed afresh: %s", start.From, what, names)}
+	switch {
+	case noRoom == 0:
+	case noRoom == len(unused):
+		what += ", for a duct with no room"
+	default:
+		what += fmt.Sprintf(", %d of them for a duct with no room", noRoom)
+	}
+	return []string{fmt.Sprintf("started from the routes of %s: %s: %s", start.From, what, names)}
 }

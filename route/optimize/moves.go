@@ -1101,15 +1101,14 @@ func (sv *solver) place(d int) {
 	for try := 0; try < 4; try++ {
 		c := sv.best(d)
 		sv.add(d, c)
-		if sv.key().overfull <= before {
+		full := sv.fullEdges(c, before)
+		if full == nil {
 			return
 		}
-		for _, leg := range c.legs {
-			for _, h := range leg {
-				if sv.limited[h.Edge] && sv.st.over[h.Edge] && !sv.forbid[h.Edge] {
-					sv.forbid[h.Edge] = true
-					banned = append(banned, h.Edge)
-				}
+		for _, e := range full {
+			if !sv.forbid[e] {
+				sv.forbid[e] = true
+				banned = append(banned, e)
 			}
 		}
 		sv.remove(d)

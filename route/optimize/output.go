@@ -10,7 +10,8 @@ import (
 func (sv *solver) solution() *Solution {
 	sv.flush()
 	p, st := sv.p, sv.st
-	sol := &Solution{Routes: make([]Route, len(p.Demands)), Rounds: sv.rounds, LowerBoundCents: sv.planBound(), StartUnused: sv.startUnused}
+	sol := &Solution{Routes: make([]Route, len(p.Demands)), Rounds: sv.rounds, LowerBoundCents: sv.planBound(), StartUnused: sv.startUnused,
+		StartNoRoom: sv.startNoRoom}
 	for d := range p.Demands {
 		dm := &p.Demands[d]
 		r := &sol.Routes[d]

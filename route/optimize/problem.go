@@ -96,6 +96,11 @@ func (e *Edge) limited() bool { return e.DuctIDMM > 0 }
 // proposed edge always (built to size), on an existing one when they have a price.
 func (e *Edge) canAdd() bool { return e.Proposed || e.AddDuctPerMCents > 0 }
 
+// MayAddDucts reports whether the plan may add ducts to the edge when its ducts are full
+// (the rule Solve packs by): on a proposed edge always, on an existing one when
+// AddDuctPerMCents prices them.
+func (e *Edge) MayAddDucts() bool { return e.canAdd() }
+
 // addedFor is the ducts a packing into ducts ducts adds beyond the edge's own, and whether the
 // edge may have them.
 func (e *Edge) addedFor(ducts int) (added int, ok bool) {
@@ -228,8 +233,12 @@ type Settings struct {
 	// the problem (another demand ID, an option or edge out of range, legs that do not join
 	// the demand's ends, an edge its medium may not use, beyond its reach, through a
 	// transit-free node, or a pair that shares an edge, interior node or group) is ignored
-	// and its demand placed as without a start. With a start, Solve skips its second start
-	// (every proposed edge free), whose purpose the start serves. The answer depends on the
+	// and its demand placed as without a start; so is one that fits the problem but whose
+	// cables, after those of the start routes kept before it in demand order, leave a duct
+	// overfull (no room where no duct may be added: Solution.StartNoRoom), so that a start
+	// never leaves the plan overfull where placing afresh would not. With a start, Solve
+	// skips its second start (every proposed edge free), whose purpose the start serves. The
+	// answer depends on the
 	// start: the same problem and start give the same solution.
 	Start []StartRoute
 	// PlaceOnly, with a Start, keeps every start route that fits and places the other

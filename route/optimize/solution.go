@@ -177,4 +177,18 @@ type Solution struct {
 	// problem (see Settings.Start) and were placed afresh; a start route with Option -1 is
 	// not listed. Nil without a start.
 	StartUnused []int
+	// StartNoRoom lists, by demand ascending, the demands of StartUnused whose start route
+	// fits the problem but not the ducts: kept after the start routes kept before it (in
+	// demand order), its cables would leave the ducts of capacity-limited edges overfull by
+	// the packing every plan is held to (state.go's flush, capacity.go's rule: NFPA 70
+	// Chapter 9 Table 1 fill and the jam band): no duct there has room and none may be added,
+	// or a cable is wider than one duct takes. Nil when there are none.
+	StartNoRoom []StartNoRoom
+}
+
+// StartNoRoom is a demand whose start route was placed afresh because its cables did not fit
+// the ducts (Solution.StartNoRoom).
+type StartNoRoom struct {
+	Demand int   // index into Problem.Demands
+	Edges  []int // the edges of its route its cables would have left overfull, ascending
 }

@@ -249,6 +249,9 @@ type solver struct {
 	warm []StartRoute
 	// startUnused are the demands whose start route did not fit (Solution.StartUnused).
 	startUnused []int
+	// startNoRoom are those of them whose route fitted but whose cables did not fit the
+	// ducts (Solution.StartNoRoom).
+	startNoRoom []StartNoRoom
 	// placeOnly: the warm start's plan, mended, is the answer (Settings.PlaceOnly).
 	placeOnly bool
 	// dual is the lower bound's ascent (lowerbound.go), nil for the length objective and

@@ -321,6 +321,28 @@ func (sv *solver) add(d int, c choice) {
 	sv.settle()
 }
 
+// fullEdges returns nil when the plan, with choice c just added, has no more overfull edges
+// than before: the exact packing of every duct c passes (key flushes it, by capacity's rule)
+// takes its cables within the ducts the edge has or may add. Otherwise it returns the
+// capacity-limited edges of c that are overfull now, ascending, each once; the caller takes
+// c out again. Whether a route's cables fit its ducts is decided here, for the start (place)
+// and the warm start (startWarm) alike.
+func (sv *solver) fullEdges(c choice, before int) []int {
+	if sv.key().overfull <= before {
+		return nil
+	}
+	full := []int{}
+	for _, leg := range c.legs {
+		for _, h := range leg {
+			if e := h.Edge; sv.limited[e] && sv.st.over[e] && !slices.Contains(full, e) {
+				full = append(full, e)
+			}
+		}
+	}
+	slices.Sort(full)
+	return full
+}
+
 // Deferred removals. remove leaves demand d's entries in the users (and ods, cnt) of its
 // edges, marked pending, and the next add of d reuses those on its new route in place; the
 // rest are deleted then (settle), as they are before any other add or remove and before a

@@ -6,7 +6,11 @@ import "slices"
 // instead of routing the demands one by one.
 
 // startWarm builds the first plan from the warm start: every demand whose start route fits the
-// problem takes it, then the others are placed in demand order as start places them.
+// problem takes it, in demand order, where its cables fit the ducts with the routes taken
+// before it (fullEdges: the packing and overfull rule place holds the start to, so the first
+// plan is never overfull where place would not leave it; a bank with no room, where this
+// problem may add no duct, keeps no start route through it), then the others are placed in
+// demand order as start places them.
 func (sv *solver) startWarm() {
 	sv.st = newState(sv)
 	sv.recount()
@@ -15,13 +19,20 @@ func (sv *solver) startWarm() {
 		if sv.stopped() {
 			break
 		}
-		if c, ok := sv.warmChoice(d); ok {
+		c, ok := sv.warmChoice(d)
+		if ok {
+			before := sv.key().overfull
 			sv.add(d, c)
-		} else {
-			later = append(later, d)
-			if d >= len(sv.warm) || sv.warm[d].Option >= 0 {
-				sv.startUnused = append(sv.startUnused, d)
+			full := sv.fullEdges(c, before)
+			if full == nil {
+				continue
 			}
+			sv.remove(d)
+			sv.startNoRoom = append(sv.startNoRoom, StartNoRoom{Demand: d, Edges: full})
+		}
+		later = append(later, d)
+		if d >= len(sv.warm) || sv.warm[d].Option >= 0 {
+			sv.startUnused = append(sv.startUnused, d)
 		}
 	}
 	for _, d := range later {

@@ -2,6 +2,7 @@ package optimize
 
 import (
 	"fmt"
+	"slices"
 	"testing"
 )
 
@@ -164,4 +165,134 @@ func TestPlaceOnly(t *testing.T) {
 	if !mended.Routes[3].Feasible {
 		t.Errorf("demand 3 not placed again")
 	}
+}
+
+// overfullEdges lists the capacity-limited edges of sol whose cables, packed first-fit in the
+// fill's order, do not fit the ducts the edge has and the plan laid there: NFPA 70 Chapter 9
+// Table 1 (53 % of a duct for one cable, 31 % for two, 40 % for three or more) and its jam
+// band, the rule NFPAFits packs by (TestNFPAFits holds it to the table).
+func overfullEdges(p *Problem, sol *Solution) []int {
+	var over []int
+	for _, f := range sol.Fill {
+		if !f.Limited {
+			continue
+		}
+		var ods []float64
+		for _, d := range f.Demands {
+			op := &p.Demands[d].Options[sol.Routes[d].Option]
+			for range max(op.Cables, 1) {
+				ods = append(ods, op.CableODMM)
+			}
+		}
+		ed := &p.Edges[f.Edge]
+		ducts := ed.Ducts
+		if ed.MayAddDucts() {
+			ducts += f.AddedDucts
+		}
+		if !NFPAFits(ed.DuctIDMM, ods, ducts) {
+			over = append(over, f.Edge)
+		}
+	}
+	return over
+}
+
+// TestWarmStartFullBank: the busy duct banks of a seeded campus (every existing one its plan
+// pulls two or more cables through) have no spare duct; the base scenario may add duct beside
+// them (and build proposed trench) and routes cables through them in added ducts. The scenario
+// after it may build nothing: no added duct anywhere, no proposed edge (a sweep's "no new
+// trench" alternative). Started warm from the base's routes, no start route through a full
+// bank is kept (its cables find no room: Solution.StartNoRoom names the banks), no edge of the
+// warm plan is overfull by NFPA 70 Chapter 9 Table 1, and the warm plan leaves as many demands
+// infeasible as the scenario planned cold; the same start gives the same plan twice.
+func TestWarmStartFullBank(t *testing.T) {
+	t.Parallel()
+	base := campus(campusSpec{buildings: 40, seed: 31, diverseFrac: 0.1, options: 3, capacity: true, proposedPct: 15})
+	first, err := Solve(base, Settings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	full := map[int]bool{}
+	for _, f := range first.Fill {
+		if f.Limited && !base.Edges[f.Edge].Proposed && f.Cables >= 2 {
+			full[f.Edge] = true
+			base.Edges[f.Edge].Ducts = 0 // full: the base may still add duct beside it
+		}
+	}
+	bs, err := Solve(base, Settings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	through := map[int]bool{} // demands whose base route crosses a full bank
+	for _, f := range bs.Fill {
+		if full[f.Edge] {
+			for _, d := range f.Demands {
+				through[d] = true
+			}
+		}
+	}
+	if len(full) < 3 || len(through) < 5 {
+		t.Fatalf("the seeded campus has %d busy duct banks and the base routes %d demands through them: too few for this test", len(full), len(through))
+	}
+	if over := overfullEdges(base, bs); over != nil {
+		t.Fatalf("the base plan is overfull on edges %v", over)
+	}
+	// The scenario: no new trench, so no duct may be added and no proposed edge built.
+	nt := clone(base)
+	nt.AllowNew = false
+	for i := range nt.Edges {
+		nt.Edges[i].AddDuctPerMCents, nt.Edges[i].AddTrenchPerMCents, nt.Edges[i].AddTrenchCents = 0, 0, 0
+	}
+	cold, err := Solve(nt, Settings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	start := StartFrom(bs)
+	warm, err := Solve(nt, Settings{Start: start})
+	if err != nil {
+		t.Fatal(err)
+	}
+	verify(t, "warm", nt, warm)
+	verify(t, "cold", nt, cold)
+	if over := overfullEdges(nt, cold); over != nil {
+		t.Fatalf("cold plan overfull on edges %v", over)
+	}
+	if over := overfullEdges(nt, warm); over != nil {
+		t.Errorf("warm plan overfull on edges %v (the cold plan is not)", over)
+	}
+	for d := range through {
+		r := warm.Routes[d]
+		if r.Feasible && slices.ContainsFunc(append(r.Primary.Hops, r.Secondary.Hops...), func(h Hop) bool { return full[h.Edge] }) {
+			t.Errorf("demand %d keeps a route through a full bank", d)
+		}
+	}
+	if len(warm.Infeasible) != len(cold.Infeasible) || len(cold.Infeasible) == 0 {
+		t.Errorf("warm plan: %d demands infeasible, cold plan: %d; want the same, and some", len(warm.Infeasible), len(cold.Infeasible))
+	}
+	// Why each was placed afresh: a demand whose start route fits the problem but not the
+	// ducts names edges that had no room, where no duct may be added.
+	for _, n := range warm.StartNoRoom {
+		if !slices.Contains(warm.StartUnused, n.Demand) || !through[n.Demand] {
+			t.Errorf("demand %d: no room for its start route, but not listed unused %v or not through a full bank", n.Demand, warm.StartUnused)
+		}
+		if len(n.Edges) == 0 || !slices.IsSorted(n.Edges) {
+			t.Errorf("demand %d: no room on edges %v, want some, ascending", n.Demand, n.Edges)
+		}
+		for _, e := range n.Edges {
+			if nt.Edges[e].MayAddDucts() || !full[e] {
+				t.Errorf("demand %d: no room on edge %d, which is not a full bank", n.Demand, e)
+			}
+		}
+	}
+	if len(warm.StartNoRoom) == 0 {
+		t.Errorf("no start route placed afresh for want of room")
+	}
+	again, err := Solve(nt, Settings{Start: start})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if fmt.Sprint(again.Routes, again.StartNoRoom) != fmt.Sprint(warm.Routes, warm.StartNoRoom) {
+		t.Errorf("a second warm solve from the same start differs")
+	}
+	t.Logf("%d full banks, %d base routes through them; warm %d infeasible, %d cents, %d placed afresh (%d for no room); cold %d infeasible, %d cents",
+		len(full), len(through), len(warm.Infeasible), warm.TotalCents, len(warm.StartUnused), len(warm.StartNoRoom), len(cold.Infeasible), cold.TotalCents)
 }

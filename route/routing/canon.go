@@ -198,6 +198,18 @@ func (c *canonical) back(s *optimize.Solution) *optimize.Solution {
 		}
 		slices.Sort(out.StartUnused)
 	}
+	if s.StartNoRoom != nil {
+		out.StartNoRoom = make([]optimize.StartNoRoom, len(s.StartNoRoom))
+		for i, n := range s.StartNoRoom {
+			es := make([]int, len(n.Edges))
+			for k, e := range n.Edges {
+				es[k] = c.edge[e]
+			}
+			slices.Sort(es)
+			out.StartNoRoom[i] = optimize.StartNoRoom{Demand: c.dem[n.Demand], Edges: es}
+		}
+		slices.SortFunc(out.StartNoRoom, func(a, b optimize.StartNoRoom) int { return cmp.Compare(a.Demand, b.Demand) })
+	}
 	out.Infeasible = make([]optimize.Infeasible, len(s.Infeasible))
 	for i, in := range s.Infeasible {
 		in.Demand = c.dem[in.Demand]

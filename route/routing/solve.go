@@ -45,9 +45,12 @@ type Routed struct {
 	// counted laterals tap a duct, one per junction (prepaidTaps).
 	ConstantCents int64
 	// StartUnused lists, in link order, the links whose routes in SolveFrom's start did not
-	// fit this plan (another network, hub or medium, a span gone, beyond reach) and were
-	// placed afresh, each as its ID and why in brackets; nil without a start.
+	// fit this plan (another network, hub or medium, a span gone, beyond reach, a duct with no
+	// room) and were placed afresh, each as its ID and why in brackets; nil without a start.
 	StartUnused []string
+	// StartNoRoom is how many of StartUnused were placed afresh because their cables found no
+	// room in the ducts of their start route (optimize.Solution.StartNoRoom).
+	StartNoRoom int
 	// StartSame reports that SolveFrom's start came from a plan of this very routing problem
 	// solved from scratch (Start.ProblemSHA256): its routes were not searched from, the
 	// problem's own plan is the answer, the same as without the start.
@@ -143,9 +146,15 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 		r.ProblemSHA256 = cold
 	}
 	if start != nil && !reused {
+		for _, n := range sol.StartNoRoom {
+			if _, ok := unfit[n.Demand]; !ok {
+				unfit[n.Demand] = noRoom(prob, n.Edges)
+				r.StartNoRoom++
+			}
+		}
 		for _, d := range sol.StartUnused {
 			if _, ok := unfit[d]; !ok {
-				unfit[d] = "it does not fit this plan's rules or prices (a span its medium may not use, a duct with no room, or new trench not allowed)"
+				unfit[d] = "it does not fit this plan's rules or prices (a span its medium may not use, beyond its reach, or new trench not allowed)"
 			}
 		}
 		for _, d := range slices.Sorted(maps.Keys(unfit)) {
@@ -280,6 +289,41 @@ func (m *Model) measure(ctx context.Context, s *site.Site, lay *layout, prob *op
 		r.Warnings = append(r.Warnings, w)
 	}
 	return legs, unpaid, nil
+}
+
+// noRoom is why a start route whose cables the optimizer found no room for was placed afresh
+// (optimize.Solution.StartNoRoom), naming the spans: a span without a spare duct, or whose
+// spare ducts the routes kept before it fill, where this plan may add none; or a cable wider
+// than one duct there takes (NFPA 70 Chapter 9 Table 1, the packing's rule).
+func noRoom(prob *optimize.Problem, edges []int) string {
+	var none, filled, wide []string
+	for _, e := range edges {
+		switch ed := &prob.Edges[e]; {
+		case ed.MayAddDucts():
+			wide = append(wide, ed.ID)
+		case ed.Ducts == 0:
+			none = append(none, ed.ID)
+		default:
+			filled = append(filled, ed.ID)
+		}
+	}
+	spans := func(ids []string, one, many string) string {
+		if len(ids) == 1 {
+			return "span " + ids[0] + one
+		}
+		return "spans " + strings.Join(ids, ", ") + many
+	}
+	var parts []string
+	if len(none) > 0 {
+		parts = append(parts, spans(none, " has", " have")+" no spare duct and this plan may add none")
+	}
+	if len(filled) > 0 {
+		parts = append(parts, "the spare ducts of "+spans(filled, "", "")+" have no room for its cable after the routes kept before it (NFPA 70 Chapter 9 fill) and this plan may add none")
+	}
+	if len(wide) > 0 {
+		parts = append(parts, "its cable is wider than a duct of "+spans(wide, "", "")+" takes (NFPA 70 Chapter 9 fill)")
+	}
+	return "a duct with no room: " + strings.Join(parts, "; ")
 }
 
 // beyondReach reports whether the rules reject a leg of a link the optimizer routed within
