@@ -177,9 +177,7 @@ func SolveFrom(ctx context.Context, s *site.Site, p *plan.Plan, eng *media.Engin
 	for _, w := range s.Net.Warnings {
 		r.Warnings = append(r.Warnings, w.File+": "+w.Feature+": "+w.Message)
 	}
-	if pr.warning != "" {
-		r.Warnings = append(r.Warnings, pr.warning)
-	}
+	r.Warnings = append(r.Warnings, pr.warnings...)
 	r.Warnings = append(r.Warnings, rt.Warnings...)
 	r.cutOff(s.UnreachableServed(hub, links))
 	e, err := estimate.Build(ctx, estimate.Input{Site: s, Plan: p, Engine: eng, Legs: r.Legs, Fill: r.Fill, Opened: r.Opened, Handholes: r.Handholes,
@@ -265,9 +263,10 @@ type prepared struct {
 	links []site.Link
 	notes []string // what was dropped of the plan's entries, and why
 	model *routing.Model
-	// warning is the plan's own warning, given beside the campus's: its hub overrides the
-	// campus's mc (site.HubOverride); "" for none.
-	warning string
+	// warnings are the plan's own warnings, given beside the campus's: the buildings no
+	// pathway joins and no link needs (site.Site.Unjoined), its hub overriding the campus's
+	// mc (site.HubOverride).
+	warnings []string
 }
 
 // prepare resolves the plan's hub and links on the site and builds its cost model; every
@@ -284,6 +283,15 @@ func prepare(s *site.Site, p *plan.Plan, eng *media.Engine) (prepared, error) {
 	} else {
 		links, notes, errs = s.Links(p, hub)
 	}
+	var warnings []string
+	if err == nil {
+		var unjoined []error
+		unjoined, warnings = s.Unjoined(hub, links)
+		errs = append(errs, unjoined...)
+	}
+	if w := s.HubOverride(p); w != "" {
+		warnings = append(warnings, w)
+	}
 	errs = append(errs, p.CheckRates(eng.Catalog())...)
 	model := routing.NewModel(eng, p.Design)
 	if err := model.CheckPrices(s, links); err != nil {
@@ -297,7 +305,7 @@ func prepare(s *site.Site, p *plan.Plan, eng *media.Engine) (prepared, error) {
 		l.Sort()
 		return prepared{}, l.Err()
 	}
-	return prepared{hub: hub, links: links, notes: notes, model: model, warning: s.HubOverride(p)}, nil
+	return prepared{hub: hub, links: links, notes: notes, model: model, warnings: warnings}, nil
 }
 
 // Design is the plan's design, or the defaults for a result with no plan.

@@ -114,6 +114,10 @@ func (s *Site) Check(hub string) CheckReport {
 	for _, w := range s.Net.Warnings {
 		r.Warnings = append(r.Warnings, w.File+": "+w.Feature+": "+w.Message)
 	}
+	for _, u := range s.Net.Unjoined {
+		w := u.Warning("; a plan that serves it is refused (to serve it, " + unjoinedFix + "; else skip its link)")
+		r.Warnings = append(r.Warnings, w.File+": "+w.Feature+": "+w.Message)
+	}
 	return r
 }
 
