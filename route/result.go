@@ -213,9 +213,10 @@ func CheckPlan(s *site.Site, p *plan.Plan, rep *site.CheckReport) error {
 	if w := s.HubOverride(p); w != "" && rep.Hub == p.Hub {
 		rep.Warnings = append(rep.Warnings, w)
 	}
-	if rep.Hub != "" && len(rep.ThroughOnly) > 0 {
+	if rep.Hub != "" && (len(rep.ThroughOnly) > 0 || len(rep.Unreachable) > 0) {
 		if links, _, errs := s.Links(p, rep.Hub); len(errs) == 0 {
 			s.ThroughFor(rep, links) // bad links are Check's to report
+			s.ServedFor(rep, links)
 		}
 	}
 	if rep.Hub != "" && !p.Design.AllowNewTrench {

@@ -259,3 +259,22 @@ func TestPlanKeysInREADME(t *testing.T) {
 		}
 	}
 }
+
+// TestSkippedCutOffBuilding: a building whose pathways join none that reaches the hub, with
+// its link skipped, is no problem of the plan: plan exits 0, and check, which says the same
+// as plan before planning, lists it as cut off and served by no link and exits 0 too (it
+// exits 3 when the building is served, TestBadInput's "check names unreachable").
+func TestSkippedCutOffBuilding(t *testing.T) {
+	plan := "testdata/plans/island_skip.yaml"
+	stdout, msg, code := run(t, "check", plan)
+	if code != exitOK {
+		t.Errorf("check: exit %d, want 0: %s\n%s", code, msg, stdout)
+	}
+	const want = "  cut off: building ISLE is cut off from HQ: the pathways that reach it (D2) join none that reaches HQ; no link of the plan serves it\n"
+	if !strings.Contains(stdout, want) {
+		t.Errorf("check lacks %q:\n%s", want, stdout)
+	}
+	if _, msg, code := run(t, "plan", plan, "--out", filepath.Join(t.TempDir(), "out")); code != exitOK {
+		t.Errorf("plan: exit %d, want 0: %s", code, msg)
+	}
+}
