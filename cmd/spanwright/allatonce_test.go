@@ -168,6 +168,17 @@ func TestSkippedBuildingNeedsNoEntrance(t *testing.T) {
 	if !strings.Contains(stdout, "#16 (SILO): no pathway within 30 m of the footprint (design: max_lateral_m); a plan that serves it is refused") {
 		t.Errorf("check does not warn of SILO:\n%s", stdout)
 	}
+	// A link from it needs it again: refused, the link and the fix named, nothing written.
+	editFile(t, dir, "plan.yaml", "  - {to: SILO, skip: true}", "  - {to: SILO, skip: true}\n  - {from: SILO, to: STORE}")
+	out2 := filepath.Join(dir, "out2")
+	_, msg, code = run(t, "plan", plan, "--out", out2)
+	if code != exitInvalid {
+		t.Fatalf("plan with a link from SILO: exit %d, want %d: %s", code, exitInvalid, msg)
+	}
+	wantLines(t, "link from SILO", msg, out2, []string{filepath.Join(dir, "campus.geojson") +
+		`: feature #16 "SILO": no pathway within 30 m of the footprint (design: max_lateral_m); the plan serves links from it (link SILO-STORE, the links entry at line 20 of the plan): draw a pathway (or an entrance on one) within reach of it, or raise design.max_lateral_m, or serve them from another building (from: in links)`})
+	editFile(t, dir, "plan.yaml", "\n  - {from: SILO, to: STORE}", "")
+
 	// The plan of the rest is the plan without the building: the same links and total.
 	bare := starterWith(t)
 	bareOut := filepath.Join(bare, "out")
