@@ -218,6 +218,21 @@ cases:
 		sw + `:5:3: vary: design.allow_new_trenches: unknown key; did you mean design.allow_new_trench?`,
 		sw + `:7:36: case "fast": defaults.strands: want an integer, got "many"`,
 	})
+
+	// A price book one scenario reads that lacks a price the catalog needs and one the
+	// routes need: both named in the one run, as plan names them.
+	editFile(t, dir, "prices.yaml", "  1000BASE-LX: 25.00\n", "")
+	withoutKeys(t, dir, regexp.MustCompile(`^added_duct_per_m:`))
+	short := filepath.Join(dir, "prices.yaml")
+	sw = write(t, dir, "sweep2.yaml", "base: plan.yaml\nvary:\n  design.waste_pct: [5, 8]\n")
+	_, msg, code = run(t, "sweep", sw, "--out", out)
+	if code != exitInvalid {
+		t.Fatalf("sweep2: exit %d, want %d: %s", code, exitInvalid, msg)
+	}
+	wantLines(t, "sweep2", msg, out, []string{
+		short + `: price "transceiver 1000BASE-LX": missing; add transceivers.1000BASE-LX`,
+		short + `: price "added-duct": missing; add added_duct_per_m`,
+	})
 }
 
 // TestPlanKeysInREADME (tester 10, F16): every key a plan file may hold (the fields of

@@ -9,7 +9,6 @@ import (
 	"runtime"
 	"runtime/debug"
 	"sort"
-	"spanwright/geo/input"
 	"strings"
 	"time"
 
@@ -17,6 +16,7 @@ import (
 	"github.com/urfave/cli/v2"
 	"golang.org/x/term"
 
+	"spanwright/geo/input"
 	"spanwright/route/escape"
 	"spanwright/route/output"
 	"spanwright/route/report"
