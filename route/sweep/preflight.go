@@ -188,7 +188,10 @@ func (r *runner) checkScenario(sc Scenario) ([]*input.Problem, *media.PriceBook)
 		}
 		return probs, nil
 	}
-	if len(probs) > 0 {
+	if len(probs) > 0 { // the campus's: the plan's rates can still be checked on the catalog
+		for _, e := range p.CheckRates(eng.Catalog()) {
+			probs = append(probs, r.blame(sc, planPath, "", e)...)
+		}
 		return probs, eng.PriceBook()
 	}
 	return r.blame(sc, planPath, "", route.Check(site, p, eng)), eng.PriceBook()
