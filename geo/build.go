@@ -58,7 +58,9 @@ const minCellM = 25.0
 //     lateral's tap within tapMergeM along its pathway of a junction already there moves to
 //     it (placeTaps).
 //
-// A building with none of these is an ErrUnreachable *input.Problem.
+// A building with none of these has no Access and no Entrances: it is listed in Unjoined
+// with the ErrUnreachable *input.Problem that says why, and the rest of the network is built
+// (a campus holds buildings no plan serves; whether one matters is the plan's to say).
 //
 // A pathway end more than SnapM inside a footprint that meets nothing there is cut back to
 // where the pathway crosses the wall (cutAtWalls), with one Warning.
@@ -229,6 +231,7 @@ type builder struct {
 	snap, maxLat float64
 	nearMiss     float64
 	errs         input.Problems
+	unjoined     []Unjoined // buildings no pathway joins (unjoin)
 	warns        []warnRec
 
 	proj  projector
@@ -267,6 +270,14 @@ type builder struct {
 
 func (b *builder) add(src Source, id, prop string, err error) {
 	b.errs.Add(&input.Problem{File: src.File, Feature: src.Feature(id), Key: prop, Err: err})
+}
+
+// unjoin records that no pathway joins building bi, and why (format and args): the building
+// gets no Access and no Entrances, and is listed in Network.Unjoined.
+func (b *builder) unjoin(bi int, format string, args ...any) {
+	bl := &b.c.Buildings[bi]
+	b.unjoined = append(b.unjoined, Unjoined{Building: bl.ID, Source: bl.Source, Reason: fmt.Sprintf(format, args...)})
+	b.doors[bi] = nil
 }
 
 func finite(p orb.Point) bool {
@@ -727,7 +738,7 @@ func (b *builder) planAccess() {
 			continue
 		}
 		if f.empty() {
-			b.add(bl.Source, bl.ID, "", problemf(ErrUnreachable, "no footprint and no entrance"))
+			b.unjoin(bi, "no footprint and no entrance")
 			continue
 		}
 		if len(cands) > 0 {
@@ -752,7 +763,7 @@ func (b *builder) planAccess() {
 		b.buf = b.segGrid.query(lo, hi, b.buf)
 		best := b.lateralPlace(f, "")
 		if best.seg < 0 || best.d > b.maxLat {
-			b.add(bl.Source, bl.ID, "", problemf(ErrUnreachable, "no pathway within %s m of the footprint (design: max_lateral_m)", fmtM(b.maxLat)))
+			b.unjoin(bi, "no pathway within %s m of the footprint (design: max_lateral_m)", fmtM(b.maxLat))
 			continue
 		}
 		b.plans[bi] = accessPlan{via: ViaLateral, target: -1}
@@ -1088,7 +1099,7 @@ func (b *builder) planEntrance(bi int, bl Building, ents []int) accessPlan {
 		return accessPlan{via: ViaEntrance, target: b.entMem[on], entrance: on}
 	}
 	if bestE < 0 {
-		b.add(bl.Source, bl.ID, "", problemf(ErrUnreachable, "no pathway within %s m of its entrance (design: max_lateral_m)", fmtM(b.maxLat)))
+		b.unjoin(bi, "no pathway within %s m of its entrance (design: max_lateral_m)", fmtM(b.maxLat))
 		return accessPlan{}
 	}
 	b.taps[bestTap].plan = true // placeTaps sets the target
@@ -1539,7 +1550,7 @@ func (b *builder) access(n *Network) {
 				}
 			}
 			if best == "" {
-				b.add(bl.Source, bl.ID, "", problemf(ErrUnreachable, "the pathway ends on the footprint were dropped as shorter than 3×SnapM"))
+				b.unjoin(bi, "the pathway ends on the footprint were dropped as shorter than 3×SnapM")
 				continue
 			}
 			a.Junction = best
@@ -1552,8 +1563,8 @@ func (b *builder) access(n *Network) {
 				if pl.via == ViaEntrance {
 					what = "entrance"
 				}
-				b.add(bl.Source, bl.ID, "", problemf(ErrUnreachable, "no pathway within %s m of the %s (design: max_lateral_m); nearest is %s m",
-					fmtM(b.maxLat), what, fmtM(a.LateralM)))
+				b.unjoin(bi, "no pathway within %s m of the %s (design: max_lateral_m); nearest is %s m",
+					fmtM(b.maxLat), what, fmtM(a.LateralM))
 				continue
 			}
 		default:
@@ -1562,6 +1573,8 @@ func (b *builder) access(n *Network) {
 		n.Access = append(n.Access, a)
 	}
 	sort.Slice(n.Access, func(i, j int) bool { return n.Access[i].Building < n.Access[j].Building })
+	n.Unjoined = slices.Clone(b.unjoined)
+	slices.SortFunc(n.Unjoined, func(x, y Unjoined) int { return strings.Compare(x.Building, y.Building) })
 }
 
 // lateralTo is the counted lateral of building bi to the junction with root r: from the

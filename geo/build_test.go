@@ -1,6 +1,7 @@
 package geo
 
 import (
+	"errors"
 	"math"
 	"math/rand/v2"
 	"reflect"
@@ -463,13 +464,6 @@ func TestBuildErrors(t *testing.T) {
 		opt  Options
 		want string
 	}{
-		{"too far", Campus{Buildings: []Building{box("B", 0, 100, 10)}, Pathways: []Pathway{pw("T", ml(0, 0, 100, 0))}},
-			Options{}, `t.geojson: feature #0 "B": no pathway within 30 m of the footprint`},
-		{"entrance too far", Campus{Buildings: []Building{box("B", 0, 100, 10)}, Pathways: []Pathway{pw("T", ml(0, 0, 100, 0))},
-			Entrances: []Entrance{{Building: "B", Point: at(0, 90)}}},
-			Options{}, `no pathway within 30 m of its entrance`},
-		{"limit option", Campus{Buildings: []Building{box("B", 0, 30, 10)}, Pathways: []Pathway{pw("T", ml(0, 0, 100, 0))}},
-			Options{MaxLateralM: 5}, `no pathway within 5 m of the footprint`},
 		{"bad options", Campus{}, Options{SnapM: -1}, "bad options"},
 		{"bad near-miss option", Campus{}, Options{NearMissM: math.Inf(1)}, "NearMissM +Inf"},
 		{"hand-built short line", Campus{Pathways: []Pathway{pw("T", orb.LineString{at(0, 0), at(0, 0)})}},
@@ -485,6 +479,56 @@ func TestBuildErrors(t *testing.T) {
 			_, err := Build(&tc.c, tc.opt)
 			if err == nil || !strings.Contains(err.Error(), tc.want) {
 				t.Errorf("%s: got %v, want %q", tc.name, err, tc.want)
+			}
+		})
+	}
+}
+
+// TestUnjoined: a building no pathway joins (none within max_lateral_m of its footprint, nor
+// of its declared entrance) does not stop the build, since a campus holds buildings no plan
+// serves: it gets no Access and no entrance, and is listed in Unjoined with the problem that
+// a plan serving it reports (naming its file and feature); the building beside it that a
+// pathway reaches is joined as before.
+func TestUnjoined(t *testing.T) {
+	t.Parallel()
+	cases := []struct {
+		name string
+		c    Campus
+		opt  Options
+		want string
+	}{
+		{"too far", Campus{Buildings: []Building{box("B", 0, 100, 10)}},
+			Options{}, `t.geojson: feature #0 "B": no pathway within 30 m of the footprint (design: max_lateral_m)`},
+		{"entrance too far", Campus{Buildings: []Building{box("B", 0, 100, 10)},
+			Entrances: []Entrance{{Building: "B", Point: at(0, 90)}}},
+			Options{}, `t.geojson: feature #0 "B": no pathway within 30 m of its entrance (design: max_lateral_m)`},
+		{"limit option", Campus{Buildings: []Building{box("B", 0, 30, 10)}},
+			Options{MaxLateralM: 5}, `t.geojson: feature #0 "B": no pathway within 5 m of the footprint (design: max_lateral_m)`},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			t.Parallel()
+			tc.c.Buildings = append(tc.c.Buildings, box("A", 50, 0, 5))
+			tc.c.Pathways = []Pathway{pw("T", ml(0, 0, 100, 0))}
+			n, err := Build(&tc.c, tc.opt)
+			if err != nil {
+				t.Fatalf("%s: got %v, want no error", tc.name, err)
+			}
+			if _, ok := n.AccessOf("B"); ok || len(n.EntrancesOf("B")) > 0 {
+				t.Errorf("%s: building B has a way in: %v", tc.name, n.EntrancesOf("B"))
+			}
+			if _, ok := n.AccessOf("A"); !ok {
+				t.Errorf("%s: building A, on the pathway, has no access", tc.name)
+			}
+			if len(n.Unjoined) != 1 || n.Unjoined[0].Building != "B" {
+				t.Fatalf("%s: got unjoined %+v, want building B alone", tc.name, n.Unjoined)
+			}
+			p := n.Unjoined[0].Problem("; what fixes it")
+			if !errors.Is(p, ErrUnreachable) || p.Error() != tc.want+"; what fixes it" {
+				t.Errorf("%s: got %q (ErrUnreachable %v), want %q", tc.name, p.Error(), errors.Is(p, ErrUnreachable), tc.want+"; what fixes it")
+			}
+			if w := n.Unjoined[0].Warning(""); w.File != "t.geojson" || w.Feature != "#0 (B)" || !strings.HasSuffix(tc.want, w.Message) {
+				t.Errorf("%s: got warning %+v", tc.name, w)
 			}
 		})
 	}

@@ -67,7 +67,6 @@ func TestParseBad(t *testing.T) {
 		{"huge_riser.geojson", `huge_riser.geojson: feature #0 "B-1": property "riser_m": want metres from 0 to 1000, got 1e999`, ErrBadValue, false},
 		// common practice, no published source: no duct is a metre across.
 		{"huge_duct.geojson", `huge_duct.geojson: feature #1 "P-1": property "duct_mm": want millimetres above 0 and at most 1000, got 5000`, ErrBadValue, false},
-		{"no_pathway_near_building.geojson", `no_pathway_near_building.geojson: feature #1 "B-2": no pathway within 30 m of the footprint`, ErrUnreachable, true},
 	}
 	for _, tc := range cases {
 		t.Run(tc.file, func(t *testing.T) {

@@ -1,6 +1,10 @@
 package geo
 
-import "github.com/paulmach/orb"
+import (
+	"github.com/paulmach/orb"
+
+	"spanwright/geo/input"
+)
 
 // Options tunes how a Campus becomes a Network.
 type Options struct {
@@ -104,7 +108,31 @@ type Network struct {
 	Meetings   []Meeting
 	Transit    []Transit
 	NearMisses []NearMiss
+	// Unjoined lists the buildings no pathway joins (no Access, no Entrances), by building
+	// ID, each with why (an ErrUnreachable problem naming its feature). Such a building is
+	// no problem of the campus: a plan that serves it is refused (package route), one that
+	// does not is warned.
+	Unjoined []Unjoined
 
 	// Lookup maps set by Build; nil on a Network assembled by hand.
 	spanIdx, junctionIdx, accessIdx map[string]int
+}
+
+// Unjoined is a building no pathway joins: none within MaxLateralM of its footprint or
+// of an entrance, or its only pathway ends were dropped as noise.
+type Unjoined struct {
+	Building string
+	Source   Source
+	Reason   string // what is missing: "no pathway within 30 m of the footprint (design: max_lateral_m)"
+}
+
+// Problem is u as an input problem naming the building's feature (ErrUnreachable), with more
+// said after the reason (what would fix it).
+func (u Unjoined) Problem(more string) *input.Problem {
+	return &input.Problem{File: u.Source.File, Feature: u.Source.Feature(u.Building), Err: problemf(ErrUnreachable, "%s%s", u.Reason, more)}
+}
+
+// Warning is u as a warning, with more said after the reason.
+func (u Unjoined) Warning(more string) Warning {
+	return Warning{File: u.Source.File, Feature: u.Source.Short(u.Building), Message: u.Reason + more}
 }

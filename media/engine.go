@@ -80,6 +80,19 @@ const chooseCacheSize = 8192
 // once every rule naming an unknown medium, application or construction, every price the
 // catalog needs that the book lacks (see Needs), and bad options.
 func NewEngine(c *Catalog, r *Rules, p *PriceBook, opt EngineOptions) (*Engine, error) {
+	e, err := NewCheckEngine(c, r, p, opt)
+	if err != nil {
+		return nil, err
+	}
+	return e, nil
+}
+
+// NewCheckEngine is NewEngine for a check that goes on past missing prices: when the only
+// problems are prices the catalog needs and the book lacks (ErrMissingPrice), it returns
+// the engine with them, so that the checks that need an engine (the plan's rates, the prices
+// its routes need) still run and every problem comes out in one run. Such an engine must
+// never plan; on any other problem it returns nil, as NewEngine does.
+func NewCheckEngine(c *Catalog, r *Rules, p *PriceBook, opt EngineOptions) (*Engine, error) {
 	if c == nil {
 		c = DefaultCatalog()
 	}
@@ -136,12 +149,14 @@ func NewEngine(c *Catalog, r *Rules, p *PriceBook, opt EngineOptions) (*Engine, 
 	for _, rule := range r.Rules {
 		e.checkRule(rule, &errs)
 	}
-	if err := p.Check(Needs(c)); err != nil {
-		errs.Add(err)
-	}
 	if err := sorted(&errs); err != nil {
+		if perr := p.Check(Needs(c)); perr != nil {
+			errs.Add(perr)
+			err = sorted(&errs)
+		}
 		return nil, err
 	}
+	missing := p.Check(Needs(c))
 	e.reaches = map[reachKey][]Reach{}
 	for _, a := range c.Applications {
 		for _, m := range c.Media {
@@ -168,7 +183,7 @@ func NewEngine(c *Catalog, r *Rules, p *PriceBook, opt EngineOptions) (*Engine, 
 			}
 		}
 	}
-	return e, nil
+	return e, missing
 }
 
 // basisOf is marginBasis(m, repair), from what NewEngine worked out where it can: the text is

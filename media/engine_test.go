@@ -2,6 +2,7 @@ package media
 
 import (
 	"bytes"
+	"errors"
 	"math"
 	"path/filepath"
 	"reflect"
@@ -565,6 +566,38 @@ func TestNewEngineErrors(t *testing.T) {
 		if err == nil || !strings.Contains(err.Error(), w) {
 			t.Errorf("got %v, want it to contain %q", err, w)
 		}
+	}
+}
+
+// TestNewCheckEngine: a price book that lacks only prices the catalog needs still gives
+// NewCheckEngine an engine (so that a check goes on to the plan's rates and the prices its
+// routes need, all problems in one run) with every missing price, while NewEngine gives none;
+// any other problem (a bad option) gives no engine from either.
+func TestNewCheckEngine(t *testing.T) {
+	t.Parallel()
+	data := strings.Replace(string(pricesYAML), "  10GBASE-LR: 45.00\n", "", 1)
+	data = strings.Replace(data, "  1000BASE-LX: 22.00\n", "", 1)
+	p, err := ParsePriceBook("short.yaml", []byte(data))
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := []string{
+		`short.yaml: price "transceiver 1000BASE-LX": missing; add transceivers.1000BASE-LX`,
+		`short.yaml: price "transceiver 10GBASE-LR": missing; add transceivers.10GBASE-LR`,
+	}
+	e, err := NewCheckEngine(nil, nil, p, EngineOptions{})
+	if e == nil || !errors.Is(err, ErrMissingPrice) || err.Error() != strings.Join(want, "\n") {
+		t.Errorf("NewCheckEngine: got engine %v, error %v; want an engine and\n%s", e != nil, err, strings.Join(want, "\n"))
+	}
+	if e != nil && e.Catalog() == nil {
+		t.Errorf("NewCheckEngine: the engine has no catalog")
+	}
+	if e, err := NewEngine(nil, nil, p, EngineOptions{}); e != nil || err == nil || err.Error() != strings.Join(want, "\n") {
+		t.Errorf("NewEngine: got engine %v, error %v; want no engine and the missing prices", e != nil, err)
+	}
+	e, err = NewCheckEngine(nil, nil, p, EngineOptions{LossMarginDB: -1})
+	if e != nil || err == nil || !strings.Contains(err.Error(), "option loss_margin_db") || !strings.Contains(err.Error(), want[0]) {
+		t.Errorf("NewCheckEngine with a bad option: got engine %v, error %v; want no engine, the option and the prices", e != nil, err)
 	}
 }
 

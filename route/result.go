@@ -177,9 +177,7 @@ func SolveFrom(ctx context.Context, s *site.Site, p *plan.Plan, eng *media.Engin
 	for _, w := range s.Net.Warnings {
 		r.Warnings = append(r.Warnings, w.File+": "+w.Feature+": "+w.Message)
 	}
-	if pr.warning != "" {
-		r.Warnings = append(r.Warnings, pr.warning)
-	}
+	r.Warnings = append(r.Warnings, pr.warnings...)
 	r.Warnings = append(r.Warnings, rt.Warnings...)
 	r.cutOff(s.UnreachableServed(hub, links))
 	e, err := estimate.Build(ctx, estimate.Input{Site: s, Plan: p, Engine: eng, Legs: r.Legs, Fill: r.Fill, Opened: r.Opened, Handholes: r.Handholes,
@@ -215,9 +213,10 @@ func CheckPlan(s *site.Site, p *plan.Plan, rep *site.CheckReport) error {
 	if w := s.HubOverride(p); w != "" && rep.Hub == p.Hub {
 		rep.Warnings = append(rep.Warnings, w)
 	}
-	if rep.Hub != "" && len(rep.ThroughOnly) > 0 {
+	if rep.Hub != "" && (len(rep.ThroughOnly) > 0 || len(rep.Unreachable) > 0) {
 		if links, _, errs := s.Links(p, rep.Hub); len(errs) == 0 {
 			s.ThroughFor(rep, links) // bad links are Check's to report
+			s.ServedFor(rep, links)
 		}
 	}
 	if rep.Hub != "" && !p.Design.AllowNewTrench {
@@ -265,9 +264,10 @@ type prepared struct {
 	links []site.Link
 	notes []string // what was dropped of the plan's entries, and why
 	model *routing.Model
-	// warning is the plan's own warning, given beside the campus's: its hub overrides the
-	// campus's mc (site.HubOverride); "" for none.
-	warning string
+	// warnings are the plan's own warnings, given beside the campus's: the buildings no
+	// pathway joins and no link needs (site.Site.Unjoined), its hub overriding the campus's
+	// mc (site.HubOverride).
+	warnings []string
 }
 
 // prepare resolves the plan's hub and links on the site and builds its cost model; every
@@ -284,6 +284,15 @@ func prepare(s *site.Site, p *plan.Plan, eng *media.Engine) (prepared, error) {
 	} else {
 		links, notes, errs = s.Links(p, hub)
 	}
+	var warnings []string
+	if err == nil {
+		var unjoined []error
+		unjoined, warnings = s.Unjoined(hub, links)
+		errs = append(errs, unjoined...)
+	}
+	if w := s.HubOverride(p); w != "" {
+		warnings = append(warnings, w)
+	}
 	errs = append(errs, p.CheckRates(eng.Catalog())...)
 	model := routing.NewModel(eng, p.Design)
 	if err := model.CheckPrices(s, links); err != nil {
@@ -297,7 +306,7 @@ func prepare(s *site.Site, p *plan.Plan, eng *media.Engine) (prepared, error) {
 		l.Sort()
 		return prepared{}, l.Err()
 	}
-	return prepared{hub: hub, links: links, notes: notes, model: model, warning: s.HubOverride(p)}, nil
+	return prepared{hub: hub, links: links, notes: notes, model: model, warnings: warnings}, nil
 }
 
 // Design is the plan's design, or the defaults for a result with no plan.

@@ -54,7 +54,7 @@ func runCheck(ctx context.Context, args []string, db string, maxBytes int64, opt
 		if p, err = loadPlan(ctx, args[0], plan.LoadOptions{MaxInputBytes: maxBytes, CampusDatabase: db}); err != nil {
 			return err
 		}
-		st, err = site.Load(ctx, nil, campusPaths(p), siteOptions(p))
+		st, _, err = loadInputs(ctx, nil, p)
 		hub = p.Hub
 	} else {
 		st, err = site.Load(ctx, nil, args, site.Options{SnapM: plan.Default.Design.SnapM,

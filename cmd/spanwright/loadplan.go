@@ -3,19 +3,21 @@ package main
 import (
 	"context"
 	"errors"
+	"io/fs"
 
 	"spanwright/geo/input"
+	"spanwright/media"
 	"spanwright/route"
 	"spanwright/route/plan"
 	"spanwright/route/site"
 )
 
 // loadPlan reads the plan file at path for plan and check. When the file has problems in its
-// values, it still reads the campus the plan names and checks the plan against it (the hub,
-// the links' buildings, the rates, the prices), so that every problem comes back at once: a
-// misspelt key and an unknown building in one run, not one after the other. Problems the
-// campus shows are added only when they are problems of a file (a missing or unreadable
-// campus is reported once the plan is right).
+// values, it still reads the campus and the media files the plan names and checks the plan
+// against them (the hub, the links' buildings, the rates, the prices), so that every problem
+// comes back at once: a misspelt key and an unknown building in one run, not one after the
+// other. Problems the campus shows are added only when they are problems of a file (a
+// missing or unreadable campus is reported once the plan is right).
 func loadPlan(ctx context.Context, path string, o plan.LoadOptions) (*plan.Plan, error) {
 	p, err := plan.LoadPlanPartial(path, o)
 	if err == nil || p == nil {
@@ -24,7 +26,11 @@ func loadPlan(ctx context.Context, path string, o plan.LoadOptions) (*plan.Plan,
 	var all input.Problems
 	all.Add(err)
 	if len(p.Campus) > 0 || p.CampusDatabase != "" {
-		if err := campusProblems(ctx, p); isFileProblem(err) {
+		st, eng, err := loadInputs(ctx, nil, p)
+		if err == nil {
+			err = route.Check(st, p, eng)
+		}
+		if isFileProblem(err) {
 			all.AddNew(err)
 		}
 	}
@@ -32,18 +38,38 @@ func loadPlan(ctx context.Context, path string, o plan.LoadOptions) (*plan.Plan,
 	return nil, all.Err()
 }
 
-// campusProblems returns what reading p's campus and checking the plan on it find: the
-// campus's own problems, the engine's, or route.Check's; nil when there are none.
-func campusProblems(ctx context.Context, p *plan.Plan) error {
-	st, err := site.Load(ctx, nil, campusPaths(p), siteOptions(p))
-	if err != nil {
-		return err
+// loadInputs reads the campus p names (from fsys when not nil) and builds its media engine
+// (catalog, rules, price book). The two do not depend on one another, so when either has
+// problems it reports those of both at once, with what can still be checked: the plan on
+// the campus and the media files (route.Check) when both were read but for prices the book
+// lacks, or the plan's rates on the catalog when the campus has problems. The prices the
+// routes need depend on the campus (its proposed spans, entrances and junctions), and are
+// checked only once it reads. A stop or the machine's refusal to read comes back alone.
+func loadInputs(ctx context.Context, fsys fs.FS, p *plan.Plan) (*site.Site, *media.Engine, error) {
+	st, siteErr := site.Load(ctx, fsys, campusPaths(p), siteOptions(p))
+	if siteErr != nil && !isFileProblem(siteErr) {
+		return nil, nil, siteErr
 	}
-	eng, err := plan.Engine(p)
-	if err != nil {
-		return err
+	eng, engErr := plan.CheckEngine(p)
+	if siteErr == nil && engErr == nil {
+		return st, eng, nil
 	}
-	return route.Check(st, p, eng)
+	if engErr != nil && !isFileProblem(engErr) {
+		return nil, nil, engErr
+	}
+	var all input.Problems
+	all.Add(siteErr)
+	all.AddNew(engErr)
+	switch {
+	case eng != nil && st != nil:
+		all.AddNew(route.Check(st, p, eng))
+	case eng != nil:
+		for _, err := range p.CheckRates(eng.Catalog()) {
+			all.AddNew(err)
+		}
+	}
+	all.Sort()
+	return nil, nil, all.Err()
 }
 
 // isFileProblem reports whether err is one or more problems of an input file (not the

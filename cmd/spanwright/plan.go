@@ -16,7 +16,6 @@ import (
 	"spanwright/route/plan"
 	"spanwright/route/report"
 	"spanwright/route/routing"
-	"spanwright/route/site"
 )
 
 func planCommand() *cli.Command {
@@ -86,15 +85,11 @@ func runPlan(ctx context.Context, fsys fs.FS, p *plan.Plan, out string, run plan
 			err = stopped{what: "nothing written", err: err}
 		}
 	}()
-	site, err := site.Load(ctx, fsys, campusPaths(p), siteOptions(p))
+	site, eng, err := loadInputs(ctx, fsys, p)
 	if err != nil {
 		return err
 	}
 	stage(ctx, "loaded")
-	eng, err := plan.Engine(p)
-	if err != nil {
-		return err
-	}
 	res, err := route.SolveFrom(ctx, site, p, eng, run.start)
 	if err != nil {
 		return err

@@ -16,6 +16,7 @@ import (
 	"github.com/urfave/cli/v2"
 	"golang.org/x/term"
 
+	"spanwright/geo/input"
 	"spanwright/route/escape"
 	"spanwright/route/output"
 	"spanwright/route/report"
@@ -111,8 +112,12 @@ func sweepOpts(c *cli.Context) (sweepOptions, error) {
 }
 
 func runSweep(ctx context.Context, o sweepOptions, stdout, stderr io.Writer) error {
-	f, err := sweep.LoadLimit(o.file, o.maxBytes)
+	f, err := sweep.LoadPartial(o.file, o.maxBytes)
 	if err != nil {
+		if f != nil {
+			// The scenarios the good overrides make: their problems too, in the same run.
+			err = allProblems(err, sweep.Check(ctx, f, sweep.Options{Out: o.out, CampusDatabase: o.campusDB}))
+		}
 		return invalid{err}
 	}
 	// A sweep allocates much short-lived garbage and keeps little: trade a few MiB of heap for
@@ -290,3 +295,15 @@ func (p *progress) finish(done bool) {
 
 // scenarios counts scenarios in words: "1 scenario", "3 scenarios".
 func scenarios(n int) string { return output.Counted(n, "scenario", "scenarios") }
+
+// allProblems is the problems of err and of more (when they are problems of input files:
+// a stop or another error of more is left out), each once, sorted.
+func allProblems(err, more error) error {
+	var all input.Problems
+	all.Add(err)
+	if isFileProblem(more) {
+		all.AddNew(more)
+	}
+	all.Sort()
+	return all.Err()
+}

@@ -1084,9 +1084,15 @@ func ftOrM(opt WriteOptions, m float64, decimals int) string {
 // in the report itself). Nil when there is none.
 func CannotServe(rep site.CheckReport) []string {
 	var out []string
-	if len(rep.Unreachable) > 0 {
-		out = append(out, fmt.Sprintf("%s cannot reach the hub %s: %s", Counted(len(rep.Unreachable), "building", "buildings"),
-			escape.Terminal(rep.Hub), escape.TerminalList(rep.Unreachable)))
+	var cut []string // cut off and served: a building no link serves is no problem of the plan
+	for _, b := range rep.Unreachable {
+		if !slices.Contains(rep.Unserved, b) {
+			cut = append(cut, b)
+		}
+	}
+	if len(cut) > 0 {
+		out = append(out, fmt.Sprintf("%s cannot reach the hub %s: %s", Counted(len(cut), "building", "buildings"),
+			escape.Terminal(rep.Hub), escape.TerminalList(cut)))
 	}
 	if len(rep.ThroughOnly) > 0 {
 		out = append(out, fmt.Sprintf("%s the hub %s only through another building routes may not cross: %s",
@@ -1142,7 +1148,10 @@ func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
 			Counted(len(r.ThroughOnly), "building reaches", "buildings reach"), proposed)
 	default:
 		fmt.Fprintf(w, "hub         %s: %s cannot reach it: %s\n", t(r.Hub), Counted(len(r.Unreachable), "building", "buildings"), escape.TerminalList(r.Unreachable))
-		for _, why := range r.CutOff {
+		for i, why := range r.CutOff {
+			if slices.Contains(r.Unserved, r.Unreachable[i]) {
+				why += "; no link of the plan serves it"
+			}
 			fmt.Fprintf(w, "  cut off: %s\n", t(InUnits(opt, why)))
 		}
 	}

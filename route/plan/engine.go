@@ -28,6 +28,17 @@ func (p *Plan) CheckRates(cat *media.Catalog) []error {
 // Engine builds the media rule engine of a plan: its catalog, rules and price book (the
 // embedded defaults where the plan names none) and its design options.
 func Engine(p *Plan) (*media.Engine, error) {
+	return engine(p, media.NewEngine)
+}
+
+// CheckEngine is Engine for a check that goes on past missing prices (media.NewCheckEngine):
+// when the files read and fit together but for prices the book lacks, it returns the
+// engine with those problems. The engine must never plan.
+func CheckEngine(p *Plan) (*media.Engine, error) {
+	return engine(p, media.NewCheckEngine)
+}
+
+func engine(p *Plan, build func(*media.Catalog, *media.Rules, *media.PriceBook, media.EngineOptions) (*media.Engine, error)) (*media.Engine, error) {
 	var cat *media.Catalog
 	var rules *media.Rules
 	var prices *media.PriceBook
@@ -57,7 +68,7 @@ func Engine(p *Plan) (*media.Engine, error) {
 	if len(errs) > 0 {
 		return nil, problems(errs)
 	}
-	return media.NewEngine(cat, rules, prices, EngineOptions(p))
+	return build(cat, rules, prices, EngineOptions(p))
 }
 
 // EngineOptions are the options of a plan's media engine, from its design section: with

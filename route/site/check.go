@@ -19,6 +19,10 @@ type CheckReport struct {
 	Hub         string   // "" when none could be resolved
 	Unreachable []string // buildings with no path to the hub
 	CutOff      []string // for each of Unreachable, in its order, why (Site.CutOff)
+	// Unserved lists, given a plan, those of Unreachable that no link of the plan serves
+	// (skipped, and no link comes from them): facts of the campus, no problem of the plan
+	// (ServedFor); nil without a plan.
+	Unserved []string
 	// ThroughOnly lists the buildings that reach the hub only through another building routes
 	// may not cross (Site.ThroughOnly).
 	ThroughOnly []string
@@ -114,7 +118,23 @@ func (s *Site) Check(hub string) CheckReport {
 	for _, w := range s.Net.Warnings {
 		r.Warnings = append(r.Warnings, w.File+": "+w.Feature+": "+w.Message)
 	}
+	for _, u := range s.Net.Unjoined {
+		w := u.Warning("; a plan that serves it is refused (to serve it, " + unjoinedFix + "; else skip its link)")
+		r.Warnings = append(r.Warnings, w.File+": "+w.Feature+": "+w.Message)
+	}
 	return r
+}
+
+// ServedFor sets the report's Unserved: the buildings cut off from the hub that no link of
+// a plan's links serves (neither end of any), which plan leaves out without a word.
+func (s *Site) ServedFor(r *CheckReport, links []Link) {
+	served := s.UnreachableServed(r.Hub, links)
+	r.Unserved = nil
+	for _, b := range r.Unreachable {
+		if !slices.Contains(served, b) {
+			r.Unserved = append(r.Unserved, b)
+		}
+	}
 }
 
 // ThroughFor narrows the report's buildings reached only through another building to what a

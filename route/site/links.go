@@ -2,6 +2,7 @@ package site
 
 import (
 	"fmt"
+	"slices"
 	"sort"
 
 	"spanwright/geo"
@@ -177,4 +178,38 @@ func (s *Site) Links(p *plan.Plan, hub string) ([]Link, []string, []error) {
 	}
 	sort.SliceStable(out, func(i, j int) bool { return out[i].ID < out[j].ID })
 	return out, notes, errs
+}
+
+// unjoinedFix is what would let a plan serve a building no pathway joins.
+const unjoinedFix = "draw a pathway (or an entrance on one) within reach of it, or raise design.max_lateral_m"
+
+// Unjoined sorts the buildings no pathway joins (geo.Network.Unjoined) by whether a plan
+// from hub with links needs them. One it needs (the hub, or an end of a link) is a problem
+// naming its feature, the link and what would fix it; one it does not is a warning, since a
+// building no link serves needs no way in.
+func (s *Site) Unjoined(hub string, links []Link) (problems []error, warnings []string) {
+	for _, u := range s.Net.Unjoined {
+		var fix string
+		if u.Building == hub {
+			fix = fmt.Sprintf("; it is the plan's hub: %s, or choose another hub", unjoinedFix)
+		} else if i := slices.IndexFunc(links, func(l Link) bool { return l.To == u.Building || l.From == u.Building }); i >= 0 {
+			l := links[i]
+			which := fmt.Sprintf("its default link %s", l.ID)
+			if l.Explicit {
+				which = fmt.Sprintf("link %s, the links entry at line %d of the plan", l.ID, l.Line)
+			}
+			if l.To == u.Building {
+				fix = fmt.Sprintf("; the plan serves it (%s): %s, or skip the link ({to: %s, skip: true} in links)", which, unjoinedFix, u.Building)
+			} else {
+				fix = fmt.Sprintf("; the plan serves links from it (%s): %s, or serve them from another building (from: in links)", which, unjoinedFix)
+			}
+		}
+		if fix != "" {
+			problems = append(problems, u.Problem(fix))
+			continue
+		}
+		w := u.Warning("; no link of the plan serves it, so it needs none")
+		warnings = append(warnings, w.File+": "+w.Feature+": "+w.Message)
+	}
+	return problems, warnings
 }

@@ -30,6 +30,7 @@ type Site struct {
 	// existingPart is part over the pathways that exist, proposed ones left out (JoinedExisting).
 	existingPart []int
 	entrance     map[string]bool // junction IDs of every entrance and access (JoinsNetwork)
+	unjoined     map[string]bool // buildings no pathway joins (geo.Network.Unjoined)
 	interior     []bool          // by junction index: inside a run of new construction (InRun)
 	carried      []bool          // by junction index: new pathway of one type carried on (JoinsNetwork)
 	dist         sync.Map        // building ID → map[string]float64, see distancesFrom
@@ -143,6 +144,10 @@ func NewSite(c *geo.Campus, net *geo.Network) *Site {
 	for _, e := range net.Entrances {
 		s.entrance[e.Junction] = true
 	}
+	s.unjoined = make(map[string]bool, len(net.Unjoined))
+	for _, u := range net.Unjoined {
+		s.unjoined[u.Building] = true
+	}
 	s.interior = runInterior(net, s.junction, s.entrance)
 	s.carried = carriedOn(net, s.junction, s.entrance)
 	return s
@@ -226,11 +231,12 @@ func (s *Site) entriesOf(b string) []geo.Access {
 }
 
 // Unreachable lists, sorted, the buildings that have no path to building hub: none of their
-// entrances is in a part of the pathway network that one of the hub's is in.
+// entrances is in a part of the pathway network that one of the hub's is in. A building no
+// pathway joins at all is not among them (Unjoined says what of it).
 func (s *Site) Unreachable(hub string) []string {
 	var out []string
 	for _, b := range s.Campus.Buildings {
-		if b.ID != hub && !s.Joined(b.ID, hub) {
+		if b.ID != hub && !s.unjoined[b.ID] && !s.Joined(b.ID, hub) {
 			out = append(out, b.ID)
 		}
 	}

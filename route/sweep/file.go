@@ -64,6 +64,20 @@ func Load(path string) (*File, error) { return LoadLimit(path, 0) }
 // LoadLimit is Load with a cap of maxBytes bytes on every file the sweep reads (0: the
 // defaults), kept in File.MaxInputBytes.
 func LoadLimit(path string, maxBytes int64) (*File, error) {
+	f, err := LoadPartial(path, maxBytes)
+	if err != nil {
+		return nil, err
+	}
+	return f, nil
+}
+
+// LoadPartial is LoadLimit that, when the sweep file has problems in some of its overrides
+// (an unknown key, a value of the wrong type or out of range) but its base plan reads, also
+// returns the file with the scenarios its other overrides make (a bad axis or value left
+// out; a case without its bad overrides), so that Check can find the problems those
+// scenarios have (a hub no building has, a price book that cannot be read) in the same
+// run. Such a file must never be run; it is nil when no scenario can be made.
+func LoadPartial(path string, maxBytes int64) (*File, error) {
 	data, err := input.ReadFile(path, input.Cap(maxBytes, input.DefaultTextMiB))
 	if err != nil {
 		return nil, &input.Problem{File: path, Err: fmt.Errorf("read: %w", input.Cause(err)), Class: ErrInvalid}
@@ -74,7 +88,13 @@ func LoadLimit(path string, maxBytes int64) (*File, error) {
 // Parse reads a sweep file from data; name is its path, for messages and to resolve the
 // base plan and file-valued overrides. It returns every problem at once, as an
 // *input.Problems whose every problem is ErrInvalid, in line order.
-func Parse(name string, data []byte) (*File, error) { return parse(name, data, 0) }
+func Parse(name string, data []byte) (*File, error) {
+	f, err := parse(name, data, 0)
+	if err != nil {
+		return nil, err
+	}
+	return f, nil
+}
 
 // sweepFile is the shape of a sweep file for input.Decoder; vary and cases are read by
 // parseVary and parseCases, since their keys are the plan's.
@@ -140,10 +160,21 @@ func parse(name string, data []byte, maxBytes int64) (*File, error) {
 	}
 	if errs.Len() == 0 {
 		f.expand(bad)
+	} else if f.baseDoc != nil {
+		// The scenarios the good overrides make, for LoadPartial: none when making them
+		// finds a problem of its own.
+		ok := true
+		f.expand(func(*yaml.Node, string, string, error) { ok = false })
+		if !ok {
+			f.scenarios = nil
+		}
 	}
 	errs.Sort()
 	if err := errs.Err(); err != nil {
-		return nil, err
+		if len(f.scenarios) == 0 {
+			return nil, err
+		}
+		return f, err
 	}
 	return f, nil
 }

@@ -174,11 +174,24 @@ func (r *runner) checkScenario(sc Scenario) ([]*input.Problem, *media.PriceBook)
 	eng, err := r.engine(p)
 	if err != nil {
 		probs = append(probs, r.blame(sc, planPath, "", err)...)
-	}
-	if err != nil {
+		// A book that lacks only prices the catalog needs hides nothing else: the checks
+		// that need an engine run on one that must never plan (plan.CheckEngine), as
+		// `spanwright plan` runs them.
+		if ce, cerr := plan.CheckEngine(p); ce != nil && cerr != nil {
+			if site != nil {
+				probs = append(probs, r.blame(sc, planPath, "", route.Check(site, p, ce))...)
+			} else {
+				for _, e := range p.CheckRates(ce.Catalog()) {
+					probs = append(probs, r.blame(sc, planPath, "", e)...)
+				}
+			}
+		}
 		return probs, nil
 	}
-	if len(probs) > 0 {
+	if len(probs) > 0 { // the campus's: the plan's rates can still be checked on the catalog
+		for _, e := range p.CheckRates(eng.Catalog()) {
+			probs = append(probs, r.blame(sc, planPath, "", e)...)
+		}
 		return probs, eng.PriceBook()
 	}
 	return r.blame(sc, planPath, "", route.Check(site, p, eng)), eng.PriceBook()

@@ -168,6 +168,17 @@ func (r *Report) count(row Row) {
 	}
 }
 
+// Check is Run's pre-flight alone (Options.Preflight) on every scenario of f: every problem
+// of their inputs at once, nothing planned or written; nil when there is none. It checks the
+// scenarios of a file LoadPartial returned with problems, to report theirs as well.
+func Check(ctx context.Context, f *File, opt Options) error {
+	r, err := newRunner(f, opt)
+	if err != nil {
+		return err
+	}
+	return r.preflight(ctx, f.Scenarios())
+}
+
 // Run plans every scenario of f in opt.Shard and writes, under opt.Out, one folder per
 // scenario named by its id, then the rows file and, for a whole sweep, the comparison (see
 // Compare, and opt.Compare's files). Scenario folders appear whole or not at all: each is

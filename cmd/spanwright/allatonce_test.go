@@ -1,0 +1,306 @@
+package main
+
+import (
+	"encoding/json"
+	"errors"
+	"os"
+	"path/filepath"
+	"reflect"
+	"regexp"
+	"strings"
+	"testing"
+
+	"spanwright/route/plan"
+)
+
+// starterWith writes the starter files to a new folder and returns it: the invented campus,
+// its plan and the price-book template.
+func starterWith(t *testing.T) string {
+	t.Helper()
+	dir := filepath.Join(t.TempDir(), "mine")
+	if _, msg, code := run(t, "starter", dir); code != exitOK {
+		t.Fatalf("starter: exit %d: %s", code, msg)
+	}
+	return dir
+}
+
+// addFarBuilding adds to the starter campus a building SILO about 1 km from every pathway, far
+// beyond the plan's max_lateral_m of 30 m, as the last feature (#16).
+func addFarBuilding(t *testing.T, dir string) {
+	t.Helper()
+	path := filepath.Join(dir, "campus.geojson")
+	data, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var fc map[string]any
+	if err := json.Unmarshal(data, &fc); err != nil {
+		t.Fatal(err)
+	}
+	feats := fc["features"].([]any)
+	feats = append(feats, map[string]any{"type": "Feature",
+		"properties": map[string]any{"kind": "building", "id": "SILO", "name": "Grain silo"},
+		"geometry": map[string]any{"type": "Polygon", "coordinates": [][][]float64{{
+			{6.995, 46.53}, {6.9951, 46.53}, {6.9951, 46.5301}, {6.995, 46.5301}, {6.995, 46.53}}}}})
+	fc["features"] = feats
+	if data, err = json.Marshal(fc); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(path, data, 0o644); err != nil {
+		t.Fatal(err)
+	}
+}
+
+// editFile replaces old by new in dir/name, once; the test fails when old is not there.
+func editFile(t *testing.T, dir, name, old, new string) {
+	t.Helper()
+	path := filepath.Join(dir, name)
+	data, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(string(data), old) {
+		t.Fatalf("%s has no %q", name, old)
+	}
+	if err := os.WriteFile(path, []byte(strings.Replace(string(data), old, new, 1)), 0o644); err != nil {
+		t.Fatal(err)
+	}
+}
+
+// wantLines checks that msg holds every line of want, each once, and nothing was written to out.
+func wantLines(t *testing.T, what, msg, out string, want []string) {
+	t.Helper()
+	for _, w := range want {
+		if n := strings.Count(msg, w); n != 1 {
+			t.Errorf("%s: %q given %d times, want once, in:\n%s", what, w, n, msg)
+		}
+	}
+	if got := len(strings.Split(strings.TrimSpace(msg), "\n")); got != len(want) {
+		t.Errorf("%s: %d lines, want %d:\n%s", what, got, len(want), msg)
+	}
+	if out == "" {
+		return
+	}
+	if _, err := os.Stat(out); !errors.Is(err, os.ErrNotExist) {
+		t.Errorf("%s: the refused run made its output folder %s (%v)", what, out, err)
+	}
+}
+
+// TestEveryInputProblemAtOnce (tester 10, F8): four mistakes in four files, each of which
+// used to hide the next (a misspelt design key, a served building no pathway reaches, a
+// transceiver price the catalog needs, the added-duct price the routes need), come out in
+// one run of plan and of check: exit status 2, one line each naming the file and the
+// feature (index and id) or line:col, the key and what was expected, and nothing written.
+// The rule is the project's ("errors ... all at once"), not a standard's.
+func TestEveryInputProblemAtOnce(t *testing.T) {
+	dir := starterWith(t)
+	addFarBuilding(t, dir)
+	editFile(t, dir, "plan.yaml", "  snap_m: 0.5 ", "  allow_outdoor_coper: true\n  snap_m: 0.5 ")
+	withoutKeys(t, dir, regexp.MustCompile(`^added_duct_per_m:`))
+	editFile(t, dir, "prices.yaml", "  1000BASE-LX: 25.00\n", "")
+	plan, campus, book := filepath.Join(dir, "plan.yaml"), filepath.Join(dir, "campus.geojson"), filepath.Join(dir, "prices.yaml")
+	want := []string{
+		plan + `:25:3: design.allow_outdoor_coper: unknown key; did you mean allow_outdoor_copper?`,
+		campus + `: feature #16 "SILO": no pathway within 30 m of the footprint (design: max_lateral_m); the plan serves it (its default link HALL-SILO): draw a pathway (or an entrance on one) within reach of it, or raise design.max_lateral_m, or skip the link ({to: SILO, skip: true} in links)`,
+		book + `: price "transceiver 1000BASE-LX": missing; add transceivers.1000BASE-LX`,
+		book + `: price "added-duct": missing; add added_duct_per_m`,
+	}
+	out := filepath.Join(dir, "out")
+	_, msg, code := run(t, "plan", plan, "--out", out)
+	if code != exitInvalid {
+		t.Fatalf("plan: exit %d, want %d: %s", code, exitInvalid, msg)
+	}
+	wantLines(t, "plan", msg, out, want)
+	_, msg, code = run(t, "check", plan)
+	if code != exitInvalid {
+		t.Fatalf("check: exit %d, want %d: %s", code, exitInvalid, msg)
+	}
+	wantLines(t, "check", msg, "", want)
+
+	// The plan right, the rest not: the campus and the price book still come out together.
+	editFile(t, dir, "plan.yaml", "  allow_outdoor_coper: true\n", "")
+	_, msg, code = run(t, "plan", plan, "--out", out)
+	if code != exitInvalid {
+		t.Fatalf("plan right: exit %d, want %d: %s", code, exitInvalid, msg)
+	}
+	wantLines(t, "plan right", msg, out, want[1:])
+}
+
+// TestSkippedBuildingNeedsNoEntrance (tester 10, F9): a building no pathway reaches stops no
+// plan that does not serve it. With its link skipped, plan writes the plan of the rest (exit
+// 0, as without the building) with one warning naming the building's feature, and check
+// exits 0 too; served, plan is refused (exit 2, nothing written) with the fix named
+// (TestEveryInputProblemAtOnce). Common practice, no published source: a campus GIS layer
+// holds buildings no backbone serves.
+func TestSkippedBuildingNeedsNoEntrance(t *testing.T) {
+	dir := starterWith(t)
+	addFarBuilding(t, dir)
+	editFile(t, dir, "plan.yaml", "  - {to: MAST, rate: 1G}", "  - {to: MAST, rate: 1G}\n  - {to: SILO, skip: true}")
+	plan, out := filepath.Join(dir, "plan.yaml"), filepath.Join(dir, "out")
+	stdout, msg, code := run(t, "plan", plan, "--out", out)
+	if code != exitOK {
+		t.Fatalf("plan with SILO skipped: exit %d, want 0: %s\n%s", code, msg, stdout)
+	}
+	summary, err := os.ReadFile(filepath.Join(out, "summary.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var s struct {
+		Warnings []string `json:"warnings"`
+	}
+	if err := json.Unmarshal(summary, &s); err != nil {
+		t.Fatal(err)
+	}
+	const warn = `campus.geojson: #16 (SILO): no pathway within 30 m of the footprint (design: max_lateral_m); no link of the plan serves it, so it needs none`
+	n := 0
+	for _, w := range s.Warnings {
+		if strings.HasSuffix(w, warn) {
+			n++
+		}
+	}
+	if n != 1 {
+		t.Errorf("summary.json warns %d times of SILO, want once: %q", n, s.Warnings)
+	}
+	stdout, msg, code = run(t, "check", plan)
+	if code != exitOK {
+		t.Errorf("check with SILO skipped: exit %d, want 0: %s\n%s", code, msg, stdout)
+	}
+	if !strings.Contains(stdout, "#16 (SILO): no pathway within 30 m of the footprint (design: max_lateral_m); a plan that serves it is refused") {
+		t.Errorf("check does not warn of SILO:\n%s", stdout)
+	}
+	// A link from it needs it again: refused, the link and the fix named, nothing written.
+	editFile(t, dir, "plan.yaml", "  - {to: SILO, skip: true}", "  - {to: SILO, skip: true}\n  - {from: SILO, to: STORE}")
+	out2 := filepath.Join(dir, "out2")
+	_, msg, code = run(t, "plan", plan, "--out", out2)
+	if code != exitInvalid {
+		t.Fatalf("plan with a link from SILO: exit %d, want %d: %s", code, exitInvalid, msg)
+	}
+	wantLines(t, "link from SILO", msg, out2, []string{filepath.Join(dir, "campus.geojson") +
+		`: feature #16 "SILO": no pathway within 30 m of the footprint (design: max_lateral_m); the plan serves links from it (link SILO-STORE, the links entry at line 20 of the plan): draw a pathway (or an entrance on one) within reach of it, or raise design.max_lateral_m, or serve them from another building (from: in links)`})
+	editFile(t, dir, "plan.yaml", "\n  - {from: SILO, to: STORE}", "")
+
+	// The plan of the rest is the plan without the building: the same links and total.
+	bare := starterWith(t)
+	bareOut := filepath.Join(bare, "out")
+	if _, msg, code := run(t, "plan", filepath.Join(bare, "plan.yaml"), "--out", bareOut); code != exitOK {
+		t.Fatalf("plan without SILO: exit %d: %s", code, msg)
+	}
+	for _, name := range []string{"links.csv", "bom.csv"} {
+		a, errA := os.ReadFile(filepath.Join(out, name))
+		b, errB := os.ReadFile(filepath.Join(bareOut, name))
+		if errA != nil || errB != nil || string(a) != string(b) {
+			t.Errorf("%s differs from the plan of the campus without SILO (%v, %v)", name, errA, errB)
+		}
+	}
+}
+
+// TestSweepFileProblemsAtOnce (tester 10, F14): a sweep file with an unknown axis key, a case
+// value of the wrong type, a hub no building has and a price book that cannot be read gives
+// all four problems in one run, each at its value's line:col, exit 2, nothing written.
+func TestSweepFileProblemsAtOnce(t *testing.T) {
+	dir := starterWith(t)
+	sw := write(t, dir, "sweep.yaml", `base: plan.yaml
+vary:
+  hub: [HALL, LIBRARY]
+  prices: [prices.yaml, prices-c.yaml]
+  design.allow_new_trenches: [true, false]
+cases:
+  - {name: fast, defaults.strands: many}
+`)
+	out := filepath.Join(dir, "sw-out")
+	_, msg, code := run(t, "sweep", sw, "--out", out)
+	if code != exitInvalid {
+		t.Fatalf("sweep: exit %d, want %d: %s", code, exitInvalid, msg)
+	}
+	wantLines(t, "sweep", msg, out, []string{
+		sw + `:3:15: vary: hub: want the id of a building, got "LIBRARY", which no building has`,
+		sw + `:4:25: vary: prices: cannot read ` + filepath.Join(dir, "prices-c.yaml") + `: no such file or directory`,
+		sw + `:5:3: vary: design.allow_new_trenches: unknown key; did you mean design.allow_new_trench?`,
+		sw + `:7:36: case "fast": defaults.strands: want an integer, got "many"`,
+	})
+
+	// A price book one scenario reads that lacks a price the catalog needs and one the
+	// routes need: both named in the one run, as plan names them.
+	editFile(t, dir, "prices.yaml", "  1000BASE-LX: 25.00\n", "")
+	withoutKeys(t, dir, regexp.MustCompile(`^added_duct_per_m:`))
+	short := filepath.Join(dir, "prices.yaml")
+	sw = write(t, dir, "sweep2.yaml", "base: plan.yaml\nvary:\n  design.waste_pct: [5, 8]\n")
+	_, msg, code = run(t, "sweep", sw, "--out", out)
+	if code != exitInvalid {
+		t.Fatalf("sweep2: exit %d, want %d: %s", code, exitInvalid, msg)
+	}
+	wantLines(t, "sweep2", msg, out, []string{
+		short + `: price "transceiver 1000BASE-LX": missing; add transceivers.1000BASE-LX`,
+		short + `: price "added-duct": missing; add added_duct_per_m`,
+	})
+}
+
+// TestPlanKeysInREADME (tester 10, F16): every key a plan file may hold (the fields of
+// plan.Plan that YAML reads, and of its defaults, links and design) is named in the README's
+// "Plan (YAML)" section, as `key` or as `key:` in its example, so that no valid key is found
+// only in an error message. The rule is the project's.
+func TestPlanKeysInREADME(t *testing.T) {
+	readme, err := os.ReadFile("../../README.md")
+	if err != nil {
+		t.Fatal(err)
+	}
+	text := string(readme)
+	start := strings.Index(text, "### Plan (YAML)")
+	if start < 0 {
+		t.Fatal(`README.md has no "### Plan (YAML)" section`)
+	}
+	section := text[start:]
+	if end := strings.Index(section[len("###"):], "\n### "); end >= 0 {
+		section = section[:end+len("###")]
+	}
+	var keys []string
+	var walk func(prefix string, typ reflect.Type)
+	walk = func(prefix string, typ reflect.Type) {
+		for i := 0; i < typ.NumField(); i++ {
+			f := typ.Field(i)
+			name, _, _ := strings.Cut(f.Tag.Get("yaml"), ",")
+			if name == "" || name == "-" {
+				continue
+			}
+			ft := f.Type
+			if ft.Kind() == reflect.Slice {
+				ft = ft.Elem()
+			}
+			if ft.Kind() == reflect.Struct && ft.NumField() > 0 {
+				keys = append(keys, prefix+name)
+				walk(prefix+name+".", ft)
+				continue
+			}
+			keys = append(keys, prefix+name)
+		}
+	}
+	walk("", reflect.TypeOf(plan.Plan{}))
+	if len(keys) < 30 {
+		t.Fatalf("found only %d plan keys: %q", len(keys), keys)
+	}
+	for _, k := range keys {
+		leaf := k[strings.LastIndex(k, ".")+1:]
+		if !strings.Contains(section, "`"+leaf+"`") && !strings.Contains(section, leaf+":") {
+			t.Errorf("plan key %s is not in the README's Plan (YAML) section", k)
+		}
+	}
+}
+
+// TestSkippedCutOffBuilding: a building whose pathways join none that reaches the hub, with
+// its link skipped, is no problem of the plan: plan exits 0, and check, which says the same
+// as plan before planning, lists it as cut off and served by no link and exits 0 too (it
+// exits 3 when the building is served, TestBadInput's "check names unreachable").
+func TestSkippedCutOffBuilding(t *testing.T) {
+	plan := "testdata/plans/island_skip.yaml"
+	stdout, msg, code := run(t, "check", plan)
+	if code != exitOK {
+		t.Errorf("check: exit %d, want 0: %s\n%s", code, msg, stdout)
+	}
+	const want = "  cut off: building ISLE is cut off from HQ: the pathways that reach it (D2) join none that reaches HQ; no link of the plan serves it\n"
+	if !strings.Contains(stdout, want) {
+		t.Errorf("check lacks %q:\n%s", want, stdout)
+	}
+	if _, msg, code := run(t, "plan", plan, "--out", filepath.Join(t.TempDir(), "out")); code != exitOK {
+		t.Errorf("plan: exit %d, want 0: %s", code, msg)
+	}
+}
