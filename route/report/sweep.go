@@ -322,8 +322,8 @@ func scatterOf(c *sweep.Comparison) scatter {
 		switch {
 		case j.Status == sweep.StatusInfeasible:
 			p.Class = "pt pt-infeasible"
-			if j.Rank > 0 {
-				p.Title += ", ranked apart: its total leaves out " + j.Apart() + ", ranked " + sweep.RankText(&j.Row, j.Rank)
+			if j.Rank > 0 { // the rank names what its total leaves out
+				p.Title += ", ranked apart: " + sweep.RankText(&j.Row, j.Rank)
 			}
 		case j.Incomplete():
 			p.Class = "pt pt-incomplete"
