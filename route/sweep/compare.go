@@ -50,7 +50,7 @@ func judge(rows []Row) []judged {
 	for i := range rows {
 		out[i].Row = &rows[i]
 		if rows[i].Ranked() {
-			k := rows[i].Apart()
+			k := rows[i].group()
 			if _, seen := groups[k]; !seen {
 				keys = append(keys, k)
 			}
@@ -598,15 +598,17 @@ func tallyOf(js []judged) tally {
 func compareMD(js []judged, keys []string, cur string, fixed []column) []byte {
 	var b bytes.Buffer
 	var front []string
-	without := map[string][]string{} // Apart → its Pareto optimal scenarios
+	without := map[string][]string{} // rank group (Row.group) → its Pareto optimal scenarios
+	apart := map[string]string{}     // rank group → its Row.Apart
 	var exclusions []string
 	for _, j := range js {
 		switch {
 		case !j.pareto:
 		case j.RankedApart():
-			k := j.Apart()
+			k := j.group()
 			if _, seen := without[k]; !seen {
 				exclusions = append(exclusions, k)
+				apart[k] = j.Apart()
 			}
 			without[k] = append(without[k], escape.MarkdownCode(j.ID))
 		default:
@@ -640,7 +642,7 @@ func compareMD(js []judged, keys []string, cur string, fixed []column) []byte {
 		fmt.Fprintf(&b, "Pareto optimal: %s.\n\n", strings.Join(front, ", "))
 	}
 	for _, k := range exclusions {
-		fmt.Fprintf(&b, "Pareto optimal among scenarios without %s: %s.\n\n", escape.Markdown(k), strings.Join(without[k], ", "))
+		fmt.Fprintf(&b, "Pareto optimal among scenarios without %s: %s.\n\n", escape.Markdown(apart[k]), strings.Join(without[k], ", "))
 	}
 	gapMD(&b, js)
 	head := []string{"#", "id", "case"}
@@ -727,8 +729,12 @@ func unservedMD(b *bytes.Buffer, js []judged, n tally) {
 			output.Counted(ranked, "scenario", "scenarios"))
 	}
 	if left := n.infeasible - ranked; left > 0 {
+		rows := "their rows do"
+		if left == 1 {
+			rows = "its row does"
+		}
 		fmt.Fprintf(b, "%s with infeasible legs not ranked: %s not name the legs (written by an earlier spanwright; plan again to rank).\n",
-			output.Counted(left, "scenario", "scenarios"), map[bool]string{true: "its row does", false: "their rows do"}[left == 1])
+			output.Counted(left, "scenario", "scenarios"), rows)
 	}
 	if len(count) == 0 {
 		return
@@ -744,7 +750,11 @@ func unservedMD(b *bytes.Buffer, js []judged, n tally) {
 		}
 	}
 	if len(every) > 0 {
-		fmt.Fprintf(b, "Infeasible in every planned scenario, so no alternative of this sweep serves it: %s.", strings.Join(every, ", "))
+		it := "it"
+		if len(every) > 1 {
+			it = "them"
+		}
+		fmt.Fprintf(b, "Infeasible in every planned scenario, so no alternative of this sweep serves %s: %s.", it, strings.Join(every, ", "))
 		if len(some) > 0 {
 			b.WriteString(" ")
 		} else {

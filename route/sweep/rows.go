@@ -123,8 +123,8 @@ func (r *Row) fill(s output.Summary) {
 // its total leaves out (Exclusion), joined by " and "; "" for an ok scenario pricing every
 // line. Scenarios of one Apart are ranked and judged among themselves (judge): their totals
 // cover the same legs and the same items (common practice, no published source: bids are
-// compared on the same scope). A row not to rank at all (failed, or infeasible in a rows file
-// without its legs' names) has "" too: see Ranked.
+// compared on the same scope). It means nothing for a row not ranked at all (Ranked: failed,
+// or infeasible in a rows file without its legs' names).
 func (r *Row) Apart() string {
 	var parts []string
 	if r.Status == StatusInfeasible && len(r.Unserved) > 0 {
@@ -139,6 +139,16 @@ func (r *Row) Apart() string {
 		parts = append(parts, x)
 	}
 	return strings.Join(parts, " and ")
+}
+
+// group is the key of the row's rank group: Apart's legs and items, joined so that no id
+// (which may hold ", " or " and ") makes two groups one.
+func (r *Row) group() string {
+	legs := ""
+	if r.Status == StatusInfeasible {
+		legs = strings.Join(slices.Sorted(slices.Values(r.Unserved)), "\x00")
+	}
+	return legs + "\x01" + strings.Join(slices.Sorted(slices.Values(r.NotPriced)), "\x00")
 }
 
 // Ranked reports whether the comparison ranks the row: an ok scenario, or an infeasible one

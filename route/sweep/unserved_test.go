@@ -149,3 +149,21 @@ func TestCompareSaysGapIsTheNoise(t *testing.T) {
 		}
 	}
 }
+
+// TestUnservedGroupsByLeg: two scenarios whose unserved legs read alike once joined by ", "
+// (an id may hold a comma) are still two rank groups: each is ranked 1.
+func TestUnservedGroupsByLeg(t *testing.T) {
+	t.Parallel()
+	rows := []Row{
+		{Index: 0, ID: "a", Status: StatusInfeasible, Unserved: []string{"X, Y/primary", "Z/primary"}, TotalCents: 2},
+		{Index: 1, ID: "b", Status: StatusInfeasible, Unserved: []string{"X", "Y/primary, Z/primary"}, TotalCents: 1},
+	}
+	if rows[0].Apart() != rows[1].Apart() {
+		t.Fatalf("want texts alike: %q, %q", rows[0].Apart(), rows[1].Apart())
+	}
+	for _, j := range judge(rows) {
+		if j.rank != 1 || !j.pareto {
+			t.Errorf("%s: rank %d pareto %v, want 1 and Pareto in a group of its own", j.ID, j.rank, j.pareto)
+		}
+	}
+}
