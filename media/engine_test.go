@@ -111,6 +111,13 @@ func TestChoose(t *testing.T) {
 			wantRejected: []string{"cat6a rejected by copper-emi: the route crosses a high-EMI segment"},
 		},
 		{
+			// common practice, no published source: the reason names the high-EMI span, so that
+			// the designer can judge a detour (tester 10's finding 18)
+			name: "copper-emi names the span", link: func() Link { l := indoor(50); l.MaxEMI, l.EMISpans = "high", "span D-EW02b"; return l }(),
+			wantFeasible: true, wantMedium: "om3",
+			wantRejected: []string{"cat6a rejected by copper-emi: the route crosses a high-EMI segment on span D-EW02b; all-dielectric fibre is immune to EMI"},
+		},
+		{
 			// IEEE 802.3 Clause 52: 10GBASE-SR reaches 400 m on OM4 (seen)
 			name: "reach rejects multimode at 612 m",
 			link: Link{ID: "B", RouteM: 580, RiserM: 20, SlackM: 12, RateGbps: 10, MaxEMI: "low", Outdoor: true, ConnectorPairs: 2, Strands: 12},

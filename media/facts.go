@@ -66,6 +66,7 @@ const (
 	fRepairSplices
 	fCable
 	fLossMarginBasis
+	fEMISpans
 	nFacts
 )
 
@@ -130,7 +131,8 @@ var facts = [nFacts]Fact{
 	fAttenuatorDB:             numFact("attenuator_db", "the fixed attenuator at each receiver that brings the loss up to min_loss_db, in dB; 0 when none is needed"),
 	fOverloadDB:               numFact("overload_db", "how far the channel, attenuator included, stays below min_loss_db, in dB; 0 when the receiver is safe"),
 	fRepairSplices:            numFact("repair_splices", "repair splices allowed for in loss_margin_db: single-mode outside plant, per km (catalog margins)"),
-	fCable:                    strFact("cable", "the cable laid, for reasons: construction, or with a transition e.g. \"osp-loose-tube spliced to ofnr-riser at both entrances\""),
+	fCable:                    strFact("cable", "the cable laid, for reasons: construction, with the number of cables in front when the strands need more than one (\"9 × outdoor (one 4-pair cable per port pair)\"), or with a transition e.g. \"osp-loose-tube spliced to ofnr-riser at both entrances\""),
+	fEMISpans:                 strFact("emi_spans", "the route's spans at its highest EMI level (max_emi), for reasons: \"span D-EW02b\" or \"spans A/1, A/2\"; \"one of its spans\" when not known"),
 	fLossMarginBasis:          strFact("loss_margin_basis", "what loss_margin_db is made of, for reasons: e.g. \"0.5 dB + 3 repair splices of 0.3 dB\", \"the catalog's multimode margin\" or \"the plan's loss_margin_db\"; \"\" for copper"),
 }
 

@@ -13,7 +13,10 @@ type Link struct {
 	RateGbps       float64 // required data rate
 	FutureRateGbps float64 // rate the medium must also carry later; 0 when none
 
-	MaxEMI       string   // highest EMI level on the route: "none", "low" or "high"
+	MaxEMI string // highest EMI level on the route: "none", "low" or "high"
+	// EMISpans names the route's spans at MaxEMI, for reasons (the fact emi_spans): "span
+	// D-EW02b" or "spans A/1, A/2"; "" when the caller does not say (or MaxEMI is "none").
+	EMISpans     string
 	Outdoor      bool     // the route leaves a building (any segment outside)
 	PathwayTypes []string // distinct pathway types on the route, sorted
 	Plenum       bool     // part of the route runs in a plenum (an air-handling space)

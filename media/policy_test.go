@@ -385,3 +385,32 @@ func TestGradesAndTerminationInput(t *testing.T) {
 		t.Errorf("a 0 dB attenuator: got %v", err)
 	}
 }
+
+// TestCopperReasonCountsCables: a copper alternative is one 4-pair cable per port pair
+// (ANSI/TIA-568.2 and IEEE 802.3 Clause 40: a 1000BASE-T channel is one 4-pair cable, seen),
+// so 18 strands asked are 9 cables; the reason that rejects it by cost names the count, which
+// is why a 60 m copper run loses to one fibre cable here (tester 10's finding 15). One cable is
+// named without a count.
+func TestCopperReasonCountsCables(t *testing.T) {
+	t.Parallel()
+	e := newEngine(t, nil, nil, EngineOptions{AllowOutdoorCopper: true})
+	l := Link{ID: "ADMN-ANNX", RouteM: 60, RateGbps: 1, Outdoor: true, ConnectorPairs: 2, Strands: 18, CopperCables: 9}
+	ch := e.Choose(l)
+	if !ch.Feasible || ch.Medium == "cat6a" {
+		t.Fatalf("want fibre to win over 9 copper cables: %s", ch.Reason)
+	}
+	var got string
+	for _, r := range ch.Rejected {
+		if r.Medium == "cat6a" {
+			got = r.Reason
+		}
+	}
+	if !strings.HasPrefix(got, "cat6a rejected by cost: cat6a with 1000BASE-T on 9 × outdoor (one 4-pair cable per port pair) costs ") {
+		t.Errorf("copper's reason %q does not name its 9 cables", got)
+	}
+	l.Strands, l.CopperCables = 2, 1
+	ch = e.Choose(l)
+	if ch.Medium != "cat6a" || !strings.HasPrefix(ch.Reason, "cat6a with 1000BASE-T on outdoor ") {
+		t.Errorf("one copper cable: medium %s, reason %q; want cat6a on outdoor, no count", ch.Medium, ch.Reason)
+	}
+}

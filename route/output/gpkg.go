@@ -110,7 +110,7 @@ func gpkgLayers() []gpkgout.Layer {
 				c("junction", tx, "junction id; none for a pull point on a span"),
 				c("span", tx, "span id of a pull point on a span"), c("at_m", re, "its distance from the span's from end, metres"),
 				c("purpose", tx, "join (an opened pathway joins there), tap (a counted lateral taps the side of a duct), turn (a route turns between pathways), run (along new construction, at the design's spacing or bend budget) pull (the pulling plan needs a pull point) or splice (a mid-span join with no structure within its reel's reach: a splice point to build); one row per junction, under the first of join, tap and turn that it is for"),
-				c("links_text", tx, "links whose legs turn, tap or are pulled there, joined by |"),
+				c("links_text", tx, "links whose legs turn, tap, pass (as the structures layer lists them), are pulled or join there, joined by |"),
 			}},
 		{Name: LayerAllStructures, Geometry: gpkgout.Point,
 			Description: "the structures table: handholes the plan adds, then the existing structures its legs pass, numbered as on the report's map",
@@ -316,6 +316,23 @@ func planLayers(ctx context.Context, r *route.Result, sts func() (structureList,
 	}
 
 	// Handholes the plan adds: where routes join or turn, then the pulling plan's.
+	found, err := sts()
+	if err != nil {
+		return nil, err
+	}
+	// The legs the structures table lists at each handhole the plan adds at a junction (those
+	// that pass it, leaving their slack loops), by link: a handhole where new pathway joins
+	// has no turn or tap of its own, and its links are these (tester 10's finding 17).
+	linkOf := make(map[string]string, len(r.Legs))
+	for i := range r.Legs {
+		linkOf[r.Legs[i].Label()] = r.Legs[i].Link.ID
+	}
+	tableLegs := map[string][]string{}
+	for _, st := range found.all {
+		if _, seen := tableLegs[st.ID]; !seen && st.Status == StructureToBuild && st.ID != "" {
+			tableLegs[st.ID] = st.Legs
+		}
+	}
 	for _, h := range handholesByJunction(r.Handholes) {
 		j, ok := net.Junction(h.Junction)
 		if !ok {
@@ -332,6 +349,11 @@ func planLayers(ctx context.Context, r *route.Result, sts func() (structureList,
 				}
 			}
 		}
+		for _, label := range tableLegs[h.Junction] {
+			if id := linkOf[label]; id != "" && !slices.Contains(links, id) {
+				links = append(links, id)
+			}
+		}
 		add(LayerStructures, j.Point, h.Junction, nil, nil, h.Purpose(), ListText(links))
 	}
 	for _, h := range r.Estimate.Construction.RunHandholes {
@@ -340,10 +362,6 @@ func planLayers(ctx context.Context, r *route.Result, sts func() (structureList,
 			return nil, fmt.Errorf("handhole along new construction on %s: not a span of the network", h.Span)
 		}
 		add(LayerStructures, sp.PointAt(h.AtM), nil, h.Span, round1(h.AtM), PurposeRun, ListText(spanLinks[h.Span]))
-	}
-	found, err := sts()
-	if err != nil {
-		return nil, err
 	}
 	for _, p := range found.pulls {
 		if p.junction != "" {

@@ -441,17 +441,21 @@ const SummaryFormat = "spanwright summary 2"
 
 // Summary is the machine-readable digest of a planned scenario (summary.json).
 type Summary struct {
-	Format       string  `json:"format"` // SummaryFormat
-	Scenario     string  `json:"scenario"`
-	Hub          string  `json:"hub"`
-	Buildings    int     `json:"buildings"`
-	Links        int     `json:"links"`
-	Legs         int     `json:"legs"`
-	Infeasible   int     `json:"infeasible_legs"`
-	TotalRouteM  float64 `json:"total_route_m"`
-	NewTrenchM   float64 `json:"new_trench_m"`    // new civil work, trenched or bored: opened pathways and trenches for added ducts
-	DiverseLinks int     `json:"diverse_links"`   // links with two disjoint feasible legs
-	DiverseShort int     `json:"diverse_missing"` // links that asked for a diverse route and did not get one
+	Format     string `json:"format"` // SummaryFormat
+	Scenario   string `json:"scenario"`
+	Hub        string `json:"hub"`
+	Buildings  int    `json:"buildings"`
+	Links      int    `json:"links"`
+	Legs       int    `json:"legs"`
+	Infeasible int    `json:"infeasible_legs"`
+	// InfeasibleNames names the infeasible legs, "link/leg" in leg order (links.csv gives
+	// each one's reason); absent when every leg is feasible. A sweep ranks a scenario with
+	// infeasible legs among those that leave the same legs unserved (sweep.Row.Unserved).
+	InfeasibleNames []string `json:"infeasible_leg_names,omitempty"`
+	TotalRouteM     float64  `json:"total_route_m"`
+	NewTrenchM      float64  `json:"new_trench_m"`    // new civil work, trenched or bored: opened pathways and trenches for added ducts
+	DiverseLinks    int      `json:"diverse_links"`   // links with two disjoint feasible legs
+	DiverseShort    int      `json:"diverse_missing"` // links that asked for a diverse route and did not get one
 	// DiverseSinglePoint counts, of DiverseLinks, those whose two routes still share a single
 	// point of failure (the only entrance of a building at either end, a junction where their
 	// ducts cross with no structure): reason_code SPOF on the diverse leg
@@ -613,6 +617,7 @@ func Summarize(r *route.Result) Summary {
 		s.MidSpanSplices += l.Cable.Joins * l.Cable.Cables
 		if !l.Feasible {
 			s.Infeasible++
+			s.InfeasibleNames = append(s.InfeasibleNames, l.Label())
 			continue
 		}
 		feasibleLegs[l.Link.ID]++

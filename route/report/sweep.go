@@ -85,12 +85,15 @@ type sweepView struct {
 	Failed     int
 	Pareto     int
 	Incomplete int // ok scenarios not ranked: their totals leave out items not priced (sweep.Row.Incomplete)
-	Currency   string
-	Cols       []sweepCol
-	Rows       []sweepRow
-	Plot       scatter
-	Cheapest   string
-	DemoPrices int // scenarios priced by the invented demo price book
+	// InfeasibleRanked counts the scenarios with infeasible legs ranked among those leaving
+	// the same legs unserved (sweep.Row.Apart).
+	InfeasibleRanked int
+	Currency         string
+	Cols             []sweepCol
+	Rows             []sweepRow
+	Plot             scatter
+	Cheapest         string
+	DemoPrices       int // scenarios priced by the invented demo price book
 }
 
 // Sweep renders a sweep's comparison as one self-contained HTML page: the table of every
@@ -147,15 +150,18 @@ func sweepViewOf(c *sweep.Comparison, opt SweepOptions) *sweepView {
 			if j.Incomplete() {
 				v.Incomplete++
 			}
-			if j.Rank == 1 && cheapest == nil && !j.Incomplete() {
+			if j.Rank == 1 && cheapest == nil && !j.RankedApart() {
 				cheapest = j
 			}
 		case sweep.StatusInfeasible:
 			v.Infeasible++
+			if j.Ranked() {
+				v.InfeasibleRanked++
+			}
 		default:
 			v.Failed++
 		}
-		if j.Pareto && !j.Incomplete() {
+		if j.Pareto && !j.RankedApart() {
 			v.Pareto++
 		}
 		if j.DemoPrices {
@@ -316,6 +322,9 @@ func scatterOf(c *sweep.Comparison) scatter {
 		switch {
 		case j.Status == sweep.StatusInfeasible:
 			p.Class = "pt pt-infeasible"
+			if j.Rank > 0 { // the rank names what its total leaves out
+				p.Title += ", ranked apart: " + sweep.RankText(&j.Row, j.Rank)
+			}
 		case j.Incomplete():
 			p.Class = "pt pt-incomplete"
 			p.Title += ", ranked apart: its total leaves out " + j.Exclusion() + ", ranked " + sweep.RankText(&j.Row, j.Rank)

@@ -165,3 +165,28 @@ func TestSweepReportHidden(t *testing.T) {
 		t.Error("the title does not show its bidi control")
 	}
 }
+
+// TestSweepReportRanksUnserved: scenarios with infeasible legs are ranked among those leaving
+// the same legs unserved (tester 10's finding 5); the report counts them, puts the rank in the
+// point's tooltip, and never calls one the cheapest: its total leaves out the legs it cannot
+// serve (common practice, no published source: bids are compared on the same scope).
+func TestSweepReportRanksUnserved(t *testing.T) {
+	t.Parallel()
+	unserved := []string{"ADM-LIB/diverse"}
+	rows := []sweep.Row{
+		{Index: 0, ID: "ok-dear", Status: sweep.StatusOK, Currency: "USD", TotalCents: 500_000_00, WorstMarginDB: margin(2)},
+		{Index: 1, ID: "short-cheap", Status: sweep.StatusInfeasible, Currency: "USD", TotalCents: 400_000_00, InfeasibleLegs: 1, Unserved: unserved, WorstMarginDB: margin(2)},
+		{Index: 2, ID: "short-dear", Status: sweep.StatusInfeasible, Currency: "USD", TotalCents: 450_000_00, InfeasibleLegs: 1, Unserved: unserved, WorstMarginDB: margin(1)},
+	}
+	b, err := Sweep(sweep.Judge(rows, nil), SweepOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	html := string(b)
+	for _, want := range []string{"2 with infeasible legs ranked apart, each among those leaving the same legs unserved",
+		"cheapest ok: #0 ok-dear at 500,000.00 USD", "ranked apart: 1 (without leg ADM-LIB/diverse)", "ranked apart: 2 (without leg ADM-LIB/diverse)"} {
+		if !strings.Contains(html, want) {
+			t.Errorf("sweep report lacks %q", want)
+		}
+	}
+}

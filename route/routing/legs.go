@@ -8,6 +8,7 @@ import (
 	"strings"
 
 	"spanwright/geo"
+	"spanwright/geo/input"
 	"spanwright/media"
 	"spanwright/route/optimize"
 	"spanwright/route/site"
@@ -202,6 +203,7 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 	}
 	leg.RouteM = leg.LateralM
 	emi := geo.EMINone
+	var emiSpans []string // the spans at emi, in travel order
 	outdoor := leg.LateralM > 0
 	plenum := false
 	types := map[string]bool{}
@@ -260,7 +262,10 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 			outdoor = true
 		}
 		if emiRank[sp.EMI] > emiRank[emi] {
-			emi = sp.EMI
+			emi, emiSpans = sp.EMI, emiSpans[:0]
+		}
+		if sp.EMI == emi && emi != geo.EMINone && !slices.Contains(emiSpans, sp.ID) {
+			emiSpans = append(emiSpans, sp.ID)
 		}
 	}
 	facts := info.facts
@@ -271,7 +276,7 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 	for _, b := range leg.Crosses {
 		facts.CrossedInsideM += interiorM(s, b, ol)
 	}
-	facts.MaxEMI = emi
+	facts.MaxEMI, facts.EMISpans = emi, spansText(emiSpans)
 	facts.Outdoor, leg.Outdoor = outdoor, outdoor
 	facts.Plenum = plenum
 	for t := range types {
@@ -519,4 +524,20 @@ func (leg *Leg) crossing(buildings []string) {
 			leg.Crosses = append(leg.Crosses, b)
 		}
 	}
+}
+
+// emiSpansShown is how many spans spansText names before it counts the rest.
+const emiSpansShown = 5
+
+// spansText names spans for a reason (media.Link.EMISpans): "span A", "spans A, B" or
+// "spans A, B, C, D, E and 2 more"; "" for none.
+func spansText(ids []string) string {
+	switch len(ids) {
+	case 0:
+		return ""
+	case 1:
+		return "span " + ids[0]
+	}
+	shown, more := input.Shown(ids, emiSpansShown)
+	return "spans " + strings.Join(shown, ", ") + more
 }

@@ -2,7 +2,9 @@ package sweep
 
 import (
 	"bytes"
+	"cmp"
 	"fmt"
+	"maps"
 	"math"
 	"reflect"
 	"slices"
@@ -26,26 +28,29 @@ const (
 // judged is a row with what the comparison works out across rows.
 type judged struct {
 	*Row
-	rank   int  // 1 for the cheapest ok scenario; 0 when not ranked
-	pareto bool // not dominated; only ok scenarios are judged
+	rank   int  // 1 for the cheapest of its Apart; 0 when not ranked
+	pareto bool // not dominated within its Apart; only ranked scenarios are judged
 }
 
-// judge ranks the ok rows by total cost (equal costs share a rank, the next rank skips: 1, 2,
+// judge ranks the rows by total cost (equal costs share a rank, the next rank skips: 1, 2,
 // 2, 4) and flags those no other row of the same kind dominates on (total cost lower is
 // better, worst loss margin higher is better, links missing a diverse route fewer is better),
-// among the rows whose totals leave out the same items (Row.NotPriced): the complete ones
-// together, and each set of incomplete ones whose books leave out the same items together
-// (Exclusion), never an incomplete total against a complete one. A scenario without fibre legs
-// has no loss margin to lose and counts as the best margin. Infeasible and failed scenarios
-// get neither a rank nor a flag: their costs leave out the links they could not serve.
+// among the rows whose totals cover the same legs and leave out the same items (Row.Apart):
+// the ok ones pricing every line together; each set of incomplete ones whose books leave out
+// the same items together (Row.NotPriced); each set of infeasible ones that leave the same
+// legs unserved (Row.Unserved) together, so that a leg no scenario can serve (a diverse route
+// the campus does not have) still leaves the others ranked; never one total against another
+// that covers more. A scenario without fibre legs has no loss margin to lose and counts as the
+// best margin. Failed scenarios, and infeasible ones whose legs are not named (a rows file
+// written before they were kept), get neither a rank nor a flag.
 func judge(rows []Row) []judged {
 	out := make([]judged, len(rows))
 	groups := map[string][]int{}
 	var keys []string
 	for i := range rows {
 		out[i].Row = &rows[i]
-		if rows[i].Status == StatusOK {
-			k := rows[i].Exclusion()
+		if rows[i].Ranked() {
+			k := rows[i].group()
 			if _, seen := groups[k]; !seen {
 				keys = append(keys, k)
 			}
@@ -64,7 +69,7 @@ func (r *Row) Exclusion() string {
 	return strings.Join(slices.Sorted(slices.Values(r.NotPriced)), ", ")
 }
 
-// judgeGroup ranks and flags the rows ok of one exclusion (judge).
+// judgeGroup ranks and flags the ranked rows of one Apart (judge).
 func judgeGroup(rows []Row, out []judged, ok []int) {
 	byCost := append([]int(nil), ok...)
 	sort.SliceStable(byCost, func(a, b int) bool { return rows[byCost[a]].TotalCents < rows[byCost[b]].TotalCents })
@@ -130,32 +135,32 @@ func judgeGroup(rows []Row, out []judged, ok []int) {
 }
 
 // ParetoText is a row's pareto cell: "yes" or "no" for an ok scenario, judged among the
-// complete ones, or for an incomplete one (Row.Incomplete) among those whose totals leave out
-// the same items, "yes (without …)" or "no (without …)" naming them; "" for an infeasible or
-// failed one. compare.csv, compare.md and the sweep report all use it.
+// complete ones, or for one ranked apart (Row.RankedApart: incomplete, or leaving legs
+// unserved) among those of its Apart, "yes (without …)" or "no (without …)" naming what its
+// total leaves out, e.g. "yes (without leg ADMN-LIBR/diverse)"; "" for a row not ranked
+// (Row.Ranked). compare.csv, compare.md and the sweep report all use it.
 func ParetoText(r *Row, pareto bool) string {
 	text := "no"
 	if pareto {
 		text = "yes"
 	}
 	switch {
-	case r.Status != StatusOK:
+	case !r.Ranked():
 		return ""
-	case r.Incomplete():
-		return text + " (without " + r.Exclusion() + ")"
+	case r.RankedApart():
+		return text + " (without " + r.Apart() + ")"
 	}
 	return text
 }
 
-// RankText is a row's cost rank cell: the rank among the complete ok scenarios, or for an
-// incomplete one the rank among those leaving out the same items, "1 (without …)"; "" when
-// not ranked.
+// RankText is a row's cost rank cell: the rank among the complete ok scenarios, or for one
+// ranked apart the rank among those of its Apart, "1 (without …)"; "" when not ranked.
 func RankText(r *Row, rank int) string {
 	switch {
 	case rank == 0:
 		return ""
-	case r.Incomplete():
-		return strconv.Itoa(rank) + " (without " + r.Exclusion() + ")"
+	case r.RankedApart():
+		return strconv.Itoa(rank) + " (without " + r.Apart() + ")"
 	}
 	return strconv.Itoa(rank)
 }
@@ -280,7 +285,7 @@ var fixedColumns = []column{
 			switch {
 			case j.rank == 0:
 				return workbook.Blank()
-			case j.Incomplete(): // text: the totals' formulas match the complete ranks only
+			case j.RankedApart(): // text: the totals' formulas match the complete ranks only
 				return workbook.Text(RankText(j.Row, j.rank))
 			}
 			return workbook.Int(int64(j.rank))
@@ -289,9 +294,9 @@ var fixedColumns = []column{
 		func(j judged) string { return ParetoText(j.Row, j.pareto) },
 		func(j judged) workbook.Cell {
 			switch {
-			case j.Status != StatusOK:
+			case !j.Ranked():
 				return workbook.Blank()
-			case j.Incomplete():
+			case j.RankedApart():
 				return workbook.Text(ParetoText(j.Row, j.pareto))
 			}
 			return workbook.Bool(j.pareto)
@@ -488,7 +493,7 @@ func compareXLSX(js []judged, keys []string, cur string, fixed []column) ([]byte
 	n := tallyOf(js)
 	maxRank, pareto := 0, 0
 	for _, j := range js {
-		if j.Incomplete() {
+		if j.RankedApart() {
 			continue // ranked among their own kind, in text cells the formulas pass over
 		}
 		if j.Status == StatusOK && j.pareto {
@@ -500,7 +505,7 @@ func compareXLSX(js []judged, keys []string, cur string, fixed []column) ([]byte
 	// that rank, "" (IFERROR) when no row has it.
 	costAtRank := func(expr string, rank int) workbook.Cell {
 		for _, j := range js {
-			if rank > 0 && j.rank == rank && !j.Incomplete() {
+			if rank > 0 && j.rank == rank && !j.RankedApart() {
 				return workbook.Formula(expr, float64(j.TotalCents)/100, 2)
 			}
 		}
@@ -593,15 +598,17 @@ func tallyOf(js []judged) tally {
 func compareMD(js []judged, keys []string, cur string, fixed []column) []byte {
 	var b bytes.Buffer
 	var front []string
-	without := map[string][]string{} // exclusion → its Pareto optimal scenarios
+	without := map[string][]string{} // rank group (Row.group) → its Pareto optimal scenarios
+	apart := map[string]string{}     // rank group → its Row.Apart
 	var exclusions []string
 	for _, j := range js {
 		switch {
 		case !j.pareto:
-		case j.Incomplete():
-			k := j.Exclusion()
+		case j.RankedApart():
+			k := j.group()
 			if _, seen := without[k]; !seen {
 				exclusions = append(exclusions, k)
+				apart[k] = j.Apart()
 			}
 			without[k] = append(without[k], escape.MarkdownCode(j.ID))
 		default:
@@ -614,8 +621,14 @@ func compareMD(js []judged, keys []string, cur string, fixed []column) []byte {
 	if cur != "" {
 		fmt.Fprintf(&b, " Money in %s.", escape.Markdown(cur))
 	}
-	fmt.Fprintf(&b, "\nRank and Pareto flag consider only ok scenarios (every leg feasible), those whose totals price every\n")
-	fmt.Fprintf(&b, "line together; Pareto over total cost, worst loss margin (higher is better) and links lacking a diverse route.\n")
+	if slices.ContainsFunc(js, func(j judged) bool { return j.Status == StatusInfeasible && j.Ranked() }) {
+		fmt.Fprintf(&b, "\nRank and Pareto flag compare scenarios whose totals cover the same legs and items: the ok ones (every leg feasible)\n")
+		fmt.Fprintf(&b, "pricing every line together, and each set below apart; Pareto over total cost, worst loss margin (higher is better) and links lacking a diverse route.\n")
+	} else {
+		fmt.Fprintf(&b, "\nRank and Pareto flag consider only ok scenarios (every leg feasible), those whose totals price every\n")
+		fmt.Fprintf(&b, "line together; Pareto over total cost, worst loss margin (higher is better) and links lacking a diverse route.\n")
+	}
+	unservedMD(&b, js, n)
 	if n.incomplete > 0 {
 		why := "its total leaves out items its price book does not price"
 		if n.incomplete > 1 {
@@ -629,8 +642,9 @@ func compareMD(js []judged, keys []string, cur string, fixed []column) []byte {
 		fmt.Fprintf(&b, "Pareto optimal: %s.\n\n", strings.Join(front, ", "))
 	}
 	for _, k := range exclusions {
-		fmt.Fprintf(&b, "Pareto optimal among scenarios without %s: %s.\n\n", escape.Markdown(k), strings.Join(without[k], ", "))
+		fmt.Fprintf(&b, "Pareto optimal among scenarios without %s: %s.\n\n", escape.Markdown(apart[k]), strings.Join(without[k], ", "))
 	}
+	gapMD(&b, js)
 	head := []string{"#", "id", "case"}
 	for _, k := range keys {
 		head = append(head, escape.Markdown(k))
@@ -685,6 +699,94 @@ func compareMD(js []judged, keys []string, cur string, fixed []column) []byte {
 		}
 	}
 	return b.Bytes()
+}
+
+// unservedMD says, above compare.md's table, how scenarios with infeasible legs are ranked and
+// which legs leave them infeasible, each with how many scenarios leave it unserved, most
+// first: a leg that every planned scenario leaves unserved (a diverse route the campus does not
+// have, say) is no alternative's fault, and ranking the scenarios among those leaving the same
+// legs unserved keeps the rest of the comparison (tester 10's finding 5).
+func unservedMD(b *bytes.Buffer, js []judged, n tally) {
+	if n.infeasible == 0 {
+		return
+	}
+	planned, ranked := 0, 0
+	count := map[string]int{}
+	for _, j := range js {
+		if j.Status == StatusFailed {
+			continue
+		}
+		planned++
+		if j.Status == StatusInfeasible && j.Ranked() {
+			ranked++
+		}
+		for _, l := range j.Unserved {
+			count[l]++
+		}
+	}
+	if ranked > 0 {
+		fmt.Fprintf(b, "%s with infeasible legs ranked apart: each is ranked and Pareto-judged among those leaving the same legs unserved (and the same items unpriced), never against a scenario serving more (rank and pareto say \"(without leg …)\"); its total leaves out the legs it cannot serve.\n",
+			output.Counted(ranked, "scenario", "scenarios"))
+	}
+	if left := n.infeasible - ranked; left > 0 {
+		rows := "their rows do"
+		if left == 1 {
+			rows = "its row does"
+		}
+		fmt.Fprintf(b, "%s with infeasible legs not ranked: %s not name the legs (written by an earlier spanwright; plan again to rank).\n",
+			output.Counted(left, "scenario", "scenarios"), rows)
+	}
+	if len(count) == 0 {
+		return
+	}
+	legs := slices.Collect(maps.Keys(count))
+	slices.SortFunc(legs, func(a, b string) int { return cmp.Or(count[b]-count[a], strings.Compare(a, b)) })
+	var every, some []string
+	for _, l := range legs {
+		if count[l] == planned {
+			every = append(every, escape.MarkdownCode(l))
+		} else {
+			some = append(some, fmt.Sprintf("%s (%d of %d)", escape.MarkdownCode(l), count[l], planned))
+		}
+	}
+	if len(every) > 0 {
+		it := "it"
+		if len(every) > 1 {
+			it = "them"
+		}
+		fmt.Fprintf(b, "Infeasible in every planned scenario, so no alternative of this sweep serves %s: %s.", it, strings.Join(every, ", "))
+		if len(some) > 0 {
+			b.WriteString(" ")
+		} else {
+			b.WriteString(" Each scenario folder's links.csv gives the reason.\n")
+		}
+	}
+	if len(some) > 0 {
+		fmt.Fprintf(b, "Legs left unserved, with the scenarios that leave them: %s. Each scenario folder's links.csv gives the reason.\n", strings.Join(some, ", "))
+	}
+}
+
+// gapMD says, below the Pareto lines, how far the comparison's totals are proved: each row's
+// gap to its lower bound, and that a warm-started scenario is searched with fewer moves than
+// a plan from scratch, so two totals closer than their gaps may trade places under a better
+// search (tester 10's finding 10).
+func gapMD(b *bytes.Buffer, js []judged) {
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for _, j := range js {
+		if bounded(j) && j.GapPct != nil {
+			lo, hi = min(lo, *j.GapPct), max(hi, *j.GapPct)
+		}
+	}
+	if math.IsInf(lo, 1) {
+		return
+	}
+	span := output.PctText(lo) + " %"
+	if output.PctText(hi) != output.PctText(lo) {
+		span = output.PctText(lo) + " to " + output.PctText(hi) + " %"
+	}
+	fmt.Fprintf(b, "How far the totals are proved: no plan of a row's legs costs less than its proved lower bound, and a row's gap to the bound (here %s) is how far above it the plan found is, in the optimizer's objective: a better plan of the same legs could save at most that share. ", span)
+	b.WriteString("A scenario started from the base scenario's routes (its note says \"started from the routes of …\") is searched with fewer moves than `spanwright plan` searches a plan from scratch (no second start, no perturbation phase: README, \"Warm start\"), even where every link was placed afresh, so it may come out cheaper or dearer than the plan made alone, within that gap. ")
+	b.WriteString("Two totals that differ by less than their gaps are not proved to differ by the alternatives alone: a better search could put them in the other order.\n\n")
 }
 
 // mdRow writes one table row of cells already in Markdown (see escape.Markdown).

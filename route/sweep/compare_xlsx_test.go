@@ -16,7 +16,9 @@ import (
 // scenario keeps the base plan's value; and in data_only mode, which reads a formula's
 // cached value (ECMA-376 Part 1 §18.3.1.96) as pandas and previewers do, the totals are the
 // counts and costs of the rows, worked out here: 3 scenarios, 1 ok, 1 with infeasible legs,
-// 1 failed, 1 Pareto optimal, lowest and highest cost of an ok scenario 1234.56.
+// 1 failed, 1 Pareto optimal, lowest and highest cost of an ok scenario 1234.56: the
+// infeasible one, cheaper and ranked 1 among those leaving its leg unserved (tester 10's
+// finding 5), is ranked in a text cell the formulas pass over.
 func TestCompareWorkbookOpenpyxl(t *testing.T) {
 	t.Parallel()
 	py := testplan.Openpyxl(t)
@@ -25,7 +27,7 @@ func TestCompareWorkbookOpenpyxl(t *testing.T) {
 		{Index: 0, ID: "s0", Set: [][2]string{{"design.slack_m", "0.5"}, {"defaults.strands", "6"}, {"design.allow_new_trench", "true"}, {"hub", "ADM"}, {"prices", "prices-low.yaml"}},
 			Status: StatusOK, Currency: "USD", TotalCents: 123456},
 		{Index: 1, ID: "s1", Set: [][2]string{{"design.slack_m", "2"}, {"design.allow_new_trench", "false"}, {"hub", "0042"}},
-			Status: StatusInfeasible, Currency: "USD", TotalCents: 99999, InfeasibleLegs: 1},
+			Status: StatusInfeasible, Currency: "USD", TotalCents: 99999, InfeasibleLegs: 1, Unserved: []string{"ADM-B/diverse"}},
 		{Index: 2, ID: "s2", Set: [][2]string{{"hub", "NOWHERE"}}, Status: StatusFailed, Error: "no building NOWHERE"},
 	}
 	files, err := Compare(rows, keys, "")

@@ -35,14 +35,20 @@ type Row struct {
 	Status string      `json:"status"`
 	Error  string      `json:"error,omitempty"` // why a failed scenario failed
 
-	Currency        string   `json:"currency,omitempty"`
-	TotalCents      int64    `json:"total_cents"`
-	BudgetCents     *int64   `json:"budget_cents"`      // nil (null): the plan sets no budget
-	OverBudgetCents *int64   `json:"over_budget_cents"` // total minus budget; nil without a budget
-	InfeasibleLegs  int      `json:"infeasible_legs"`
-	WorstMarginDB   *float64 `json:"worst_margin_db"` // smallest loss margin, dB; nil without fibre legs
-	NewTrenchM      float64  `json:"new_trench_m"`    // metres of new trench opened
-	DiverseLinks    int      `json:"diverse_links"`   // links with two disjoint feasible legs
+	Currency        string `json:"currency,omitempty"`
+	TotalCents      int64  `json:"total_cents"`
+	BudgetCents     *int64 `json:"budget_cents"`      // nil (null): the plan sets no budget
+	OverBudgetCents *int64 `json:"over_budget_cents"` // total minus budget; nil without a budget
+	InfeasibleLegs  int    `json:"infeasible_legs"`
+	// Unserved names the infeasible legs, "link/leg" in leg order
+	// (output.Summary.InfeasibleNames); absent when every leg is feasible, and in a rows
+	// file written before it was kept, whose infeasible scenarios are then not ranked. The
+	// comparison ranks an infeasible scenario among those leaving the same legs unserved
+	// (Row.Apart).
+	Unserved      []string `json:"infeasible_leg_names,omitempty"`
+	WorstMarginDB *float64 `json:"worst_margin_db"` // smallest loss margin, dB; nil without fibre legs
+	NewTrenchM    float64  `json:"new_trench_m"`    // metres of new trench opened
+	DiverseLinks  int      `json:"diverse_links"`   // links with two disjoint feasible legs
 	// DiverseSinglePoint is, of DiverseLinks, those whose two routes still share a single
 	// point of failure (output.Summary.DiverseSinglePoint); nil (absent) in a rows file
 	// written before it was kept.
@@ -85,6 +91,7 @@ func (r *Row) fill(s output.Summary) {
 	r.Currency = s.Currency
 	r.TotalCents, r.BudgetCents, r.OverBudgetCents = s.TotalCents, s.BudgetCents, s.OverBudgetCents
 	r.InfeasibleLegs = s.Infeasible
+	r.Unserved = slices.Clone(s.InfeasibleNames)
 	r.WorstMarginDB = s.WorstMarginDB
 	r.NewTrenchM = s.NewTrenchM
 	r.DiverseLinks, r.DiverseMissing = s.DiverseLinks, s.DiverseShort
@@ -109,6 +116,50 @@ func (r *Row) fill(s output.Summary) {
 		r.Status = StatusInfeasible
 	}
 }
+
+// Apart is what sets a row's total apart from the complete totals of scenarios serving every
+// leg, for the comparison's rank and pareto cells ("1 (without …)"): the legs it leaves
+// unserved, "leg A/primary" or "legs A/primary, B/diverse" (Unserved, sorted), and the items
+// its total leaves out (Exclusion), joined by " and "; "" for an ok scenario pricing every
+// line. Scenarios of one Apart are ranked and judged among themselves (judge): their totals
+// cover the same legs and the same items (common practice, no published source: bids are
+// compared on the same scope). It means nothing for a row not ranked at all (Ranked: failed,
+// or infeasible in a rows file without its legs' names).
+func (r *Row) Apart() string {
+	var parts []string
+	if r.Status == StatusInfeasible && len(r.Unserved) > 0 {
+		legs := slices.Sorted(slices.Values(r.Unserved))
+		word := "leg "
+		if len(legs) > 1 {
+			word = "legs "
+		}
+		parts = append(parts, word+strings.Join(legs, ", "))
+	}
+	if x := r.Exclusion(); x != "" && r.Status != StatusFailed {
+		parts = append(parts, x)
+	}
+	return strings.Join(parts, " and ")
+}
+
+// group is the key of the row's rank group: Apart's legs and items, joined so that no id
+// (which may hold ", " or " and ") makes two groups one.
+func (r *Row) group() string {
+	legs := ""
+	if r.Status == StatusInfeasible {
+		legs = strings.Join(slices.Sorted(slices.Values(r.Unserved)), "\x00")
+	}
+	return legs + "\x01" + strings.Join(slices.Sorted(slices.Values(r.NotPriced)), "\x00")
+}
+
+// Ranked reports whether the comparison ranks the row: an ok scenario, or an infeasible one
+// whose unserved legs are named (Unserved), ranked among those leaving the same legs out.
+func (r *Row) Ranked() bool {
+	return r.Status == StatusOK || (r.Status == StatusInfeasible && len(r.Unserved) > 0)
+}
+
+// RankedApart reports whether the row is ranked apart from the ok scenarios that price every
+// line (Apart is not ""): incomplete, or leaving legs unserved.
+func (r *Row) RankedApart() bool { return r.Ranked() && r.Apart() != "" }
 
 // Incomplete reports whether the scenario is planned with every leg feasible but its total
 // leaves out items its price book does not price (NotPriced): a total not to rank against
