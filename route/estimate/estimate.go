@@ -711,10 +711,11 @@ func (r *run) lateralEnd(b, id string, sp *geo.Span) (own, carried geo.Entry) {
 }
 
 // ductFill checks every duct of every span of limited capacity that carries cable, with
-// the chosen cables' outside diameters, packed as the optimizer packs them
-// (install.DuctBank.Pull: first fit by install.Load.Takes, in the optimizer's order,
-// routing.SegmentFill.Links), and the ducts of new construction. Cables that fit no duct get
-// a row of their own, not OK.
+// the chosen cables' outside diameters, in the optimizer's order (routing.SegmentFill.Links),
+// and the ducts of new construction. Which cable goes in which duct is install.DuctBank.Spread:
+// the cables first fit places (install.DuctBank.Pull, as the optimizer packs them, in the
+// ducts it counted), spread over the span's empty ducts before a duct gets more loose cables
+// than a sound set of pulls. Cables that fit no duct get a row of their own, not OK.
 func (r *run) ductFill() {
 	e := r.Estimate
 	var design plan.Design // a Result assembled by hand may lack its plan
@@ -822,7 +823,7 @@ func (r *run) ductFill() {
 				r.newDucts[f.Span] = f.AddedDucts
 				hint = "; each too large for an empty duct (one cable: 53 % fill)"
 			}
-			pack(&sp, f.Ducts, bank.Pull(ods), ods, legs, hint)
+			pack(&sp, f.Ducts, bank.Spread(ods, design.Innerduct()), ods, legs, hint)
 		}
 	}
 }

@@ -30,7 +30,9 @@ func innerduct33(p *plan.Plan) { p.Design.InnerductODMM, p.Design.InnerductIDMM 
 // cable is in a duct the plan has (spare, or laid: the optimizer's count, routing.SegmentFill).
 // It returns the number of cables in no duct on existing spans. New construction is built to
 // size (optimize.Edge.LaidDucts): every duct new, at least the design's, every cable in one of
-// them, every row OK, and a span laid with more than the design's is listed in SizedDucts.
+// them, every row OK, and a span laid with more than the design's is listed in SizedDucts. No
+// duct is given more loose cables than a sound set of pulls (install.Crowded; common practice,
+// no published source) while a duct of its span stays empty (install.DuctBank.Spread).
 func fillHolds(t *testing.T, r *route.Result) (unplaced int) {
 	t.Helper()
 	routed := map[string]int{}
@@ -89,6 +91,20 @@ func fillHolds(t *testing.T, r *route.Result) (unplaced int) {
 		case opened[f.Span] && (!f.OK || !f.Added):
 			t.Errorf("span %s duct %d: %v, fill %.1f %%, jam risk %v, added %v: not a new duct, OK, in new construction built to size",
 				f.Span, f.Duct, f.CablesODMM, f.FillPct, f.JamRisk, f.Added)
+		}
+	}
+	used, crowded := map[string]int{}, map[string]int{}
+	for _, f := range r.Estimate.Fill {
+		if !f.Unplaced {
+			used[f.Span]++
+			if install.Crowded(len(f.CablesODMM), f.Innerduct) {
+				crowded[f.Span] = f.Duct
+			}
+		}
+	}
+	for span, d := range crowded {
+		if used[span] < ducts[span] {
+			t.Errorf("span %s: duct %d crowded while %d of its %d ducts stay empty", span, d, ducts[span]-used[span], ducts[span])
 		}
 	}
 	for span, n := range inRows {
