@@ -68,6 +68,7 @@ func (b DuctBank) capped(cableODsMM []float64, order []int) (a Assignment, ok bo
 		a.DuctOf[i] = -1
 	}
 	held := make([][]float64, b.Ducts)
+	a.Cables = make([][]int, b.Ducts)
 	loads := make([]Load, b.Ducts)
 	for _, c := range order {
 		od := cableODsMM[c]
@@ -88,6 +89,7 @@ func (b DuctBank) capped(cableODsMM []float64, order []int) (a Assignment, ok bo
 			return Assignment{}, false
 		}
 		held[best] = append(held[best], od)
+		a.Cables[best] = append(a.Cables[best], c)
 		loads[best].Add(od)
 		a.DuctOf[c] = best
 	}

@@ -100,6 +100,14 @@ func TestSpreadProperty(t *testing.T) {
 		}
 		empty, crowded := false, false
 		for d, f := range a.Ducts {
+			if len(a.Cables[d]) != len(f.CablesODMM) {
+				t.Fatalf("trial %d: duct %d: %d cable indices for %d cables", trial, d+1, len(a.Cables[d]), len(f.CablesODMM))
+			}
+			for k, c := range a.Cables[d] {
+				if a.DuctOf[c] != d || ods[c] != f.CablesODMM[k] {
+					t.Fatalf("trial %d: duct %d: cable %d (%g mm, in duct %d) listed as %g mm", trial, d+1, c, ods[c], a.DuctOf[c]+1, f.CablesODMM[k])
+				}
+			}
 			var l Load
 			for _, od := range f.CablesODMM {
 				if !l.Takes(b.IDMM, od) {

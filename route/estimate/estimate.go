@@ -770,9 +770,16 @@ func (r *run) ductFill() {
 		}
 		return ods, legs
 	}
-	// legsIn names the legs of the cables a packing put in duct d (-1: in none).
+	// legsIn names the legs of the cables a packing put in duct d, in the order placed (the
+	// order of the duct's CablesODMM), or, for d -1, of those in none, in input order.
 	legsIn := func(a install.Assignment, legs []string, d int) []string {
 		var out []string
+		if d >= 0 {
+			for _, i := range a.Cables[d] {
+				out = append(out, legs[i])
+			}
+			return out
+		}
 		for i, at := range a.DuctOf {
 			if at == d {
 				out = append(out, legs[i])

@@ -93,8 +93,26 @@ func fillHolds(t *testing.T, r *route.Result) (unplaced int) {
 				f.Span, f.Duct, f.CablesODMM, f.FillPct, f.JamRisk, f.Added)
 		}
 	}
+	// Each row names the leg of each of its cables, in the order of their diameters.
+	odOf := map[string]float64{}
+	for _, l := range r.Legs {
+		od := l.Cable.Size.ODMM
+		if r.Plan.Design.Innerduct() {
+			od = r.Plan.Design.InnerductODMM
+		}
+		odOf[l.Label()] = od
+	}
 	used, crowded := map[string]int{}, map[string]int{}
 	for _, f := range r.Estimate.Fill {
+		if len(f.Legs) != len(f.CablesODMM) {
+			t.Errorf("span %s duct %d: %d legs for %d cables", f.Span, f.Duct, len(f.Legs), len(f.CablesODMM))
+		} else {
+			for k, l := range f.Legs {
+				if odOf[l] != f.CablesODMM[k] {
+					t.Errorf("span %s duct %d: cable %d of %g mm named for leg %s of %g mm", f.Span, f.Duct, k+1, f.CablesODMM[k], l, odOf[l])
+				}
+			}
+		}
 		if !f.Unplaced {
 			used[f.Span]++
 			if install.Crowded(len(f.CablesODMM), f.Innerduct) {
