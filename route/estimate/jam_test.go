@@ -250,6 +250,14 @@ func TestJamGeneratedCampuses(t *testing.T) {
 				if len(r.Estimate.Fill) == 0 {
 					t.Fatal("no duct fill rows: the campus tests nothing")
 				}
+				// Loose cables carried on into the next piece of their pathway keep their duct
+				// number (install.DuctBank.Spread's preferences). Innerducts mostly do; where the
+				// plan lays a different number of ducts along the pieces, a few change.
+				changed, carried, first := ductChanges(r)
+				if !inner && changed != 0 {
+					t.Errorf("%d of %d cables carried on into the next piece of their pathway change duct (%s)", changed, carried, first)
+				}
+				t.Logf("%d of %d cables carried on change duct", changed, carried)
 			})
 		}
 	}

@@ -7,6 +7,7 @@ import (
 	"testing"
 
 	"spanwright/media/install"
+	"spanwright/route"
 	"spanwright/route/internal/testplan"
 	"spanwright/route/internal/testsite"
 )
@@ -86,7 +87,8 @@ func TestSpreadOverSpareDucts(t *testing.T) {
 // (fillHolds), and EA-2/2's eight cables, which first fit pulled into one of its three spare
 // 100 mm ducts (8.3 % fill, within NFPA 70 Chapter 9 Table 1's 40 %), are given three, three
 // and two (more than 3 loose cables in a duct is not a sound pull: common practice, no
-// published source).
+// published source); a cable carried on into the next piece of its pathway stays in its duct
+// (a duct is one tube from structure to structure: common practice, no published source).
 func TestSpreadDemo(t *testing.T) {
 	t.Parallel()
 	r := testplan.DemoResult(t)
@@ -102,4 +104,42 @@ func TestSpreadDemo(t *testing.T) {
 	if want := []int{3, 3, 2}; !slices.Equal(got, want) {
 		t.Errorf("EA-2/2: cables per duct %v, want %v", got, want)
 	}
+	// EA-2/3 and QS-3/2 carry on cables of EA-2/2 and QS-3/1: each keeps its duct.
+	if changed, carried, first := ductChanges(r); changed != 0 || carried == 0 {
+		t.Errorf("%d of %d cables carried on into the next piece of their pathway change duct (%s)", changed, carried, first)
+	}
+}
+
+// ductChanges counts, of the cables carried on from one span into the next piece of the same
+// pathway (two spans of limited capacity, one after the other on a leg), those given another
+// duct number on the second, and how many were carried on so.
+func ductChanges(r *route.Result) (changed, carried int, first string) {
+	ductOf, pathway := map[string]int{}, map[string]string{}
+	for _, f := range r.Estimate.Fill {
+		pathway[f.Span] = f.PathwayID
+		if !f.Unplaced {
+			for _, l := range f.Legs {
+				ductOf[f.Span+"\x00"+l] = f.Duct
+			}
+		}
+	}
+	for i := range r.Legs {
+		l := &r.Legs[i]
+		for k := 1; k < len(l.Steps); k++ {
+			a, b := l.Steps[k-1].SpanID, l.Steps[k].SpanID
+			da, okA := ductOf[a+"\x00"+l.Label()]
+			db, okB := ductOf[b+"\x00"+l.Label()]
+			if !okA || !okB || pathway[a] != pathway[b] {
+				continue
+			}
+			carried++
+			if da != db {
+				changed++
+				if first == "" {
+					first = fmt.Sprintf("leg %s: duct %d of %s, duct %d of %s", l.Label(), da, a, db, b)
+				}
+			}
+		}
+	}
+	return changed, carried, first
 }
