@@ -76,7 +76,16 @@ func (b DuctBank) Spread(cableODsMM []float64, innerduct bool, prefer []int) Ass
 	// (or an even share of the cables, when that is more), or while it takes it at all; or
 	// the cables take no preference.
 	share := max(SeparateCablesPerDuct, (len(placed)+b.Ducts-1)/max(b.Ducts, 1))
+	// No packing has fewer cables over the count than those beyond SeparateCablesPerDuct in
+	// every duct: one that reaches it with every preference kept ends the search.
+	least := over(nil)
+	if !innerduct {
+		least = max(0, len(placed)-SeparateCablesPerDuct*b.Ducts)
+	}
 	for _, most := range []int{share, math.MaxInt, 0} {
+		if bestOver == least && bestMissed == 0 {
+			break
+		}
 		pref := prefer
 		if most == 0 {
 			pref = nil

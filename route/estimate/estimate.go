@@ -850,16 +850,31 @@ func (r *run) ductFill() {
 	// carriedOn lists, for each leg, the spans it passes from one into the next in one duct,
 	// both ways: span → the spans next to it on the leg so.
 	carriedOn := map[string]map[string][]string{}
+	isLimited := map[string]bool{}
+	for _, x := range spans {
+		isLimited[x.sp.ID] = true
+	}
+	straight := map[[3]string]bool{} // PassAt, once per junction and pair of spans (it may scan the network)
 	for i := range r.Legs {
 		l := &r.Legs[i]
 		for k := 1; k < len(l.Steps); k++ {
 			a, b := l.Steps[k-1], l.Steps[k]
+			if !isLimited[a.SpanID] || !isLimited[b.SpanID] {
+				continue
+			}
 			sa, _ := r.Site.Net.Span(a.SpanID)
 			at := sa.To
 			if a.Reverse {
 				at = sa.From
 			}
-			if pass, ok := r.Site.Net.PassAt(at, a.SpanID, b.SpanID); !ok || pass != geo.PassStraight {
+			pair := [3]string{at, a.SpanID, b.SpanID}
+			is, seen := straight[pair]
+			if !seen {
+				pass, ok := r.Site.Net.PassAt(at, a.SpanID, b.SpanID)
+				is = ok && pass == geo.PassStraight
+				straight[pair] = is
+			}
+			if !is {
 				continue
 			}
 			if carriedOn[l.Label()] == nil {
