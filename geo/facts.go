@@ -252,10 +252,16 @@ func (n *Network) PassAt(junction, from, to string) (p Pass, ok bool) {
 	case m.Open:
 		return PassOpen, true
 	}
-	var at []int // the spans ending there, in index order
-	for i := range n.Spans {
-		if s := &n.Spans[i]; s.From == junction || s.To == junction {
-			at = append(at, i)
+	var at []int // the spans ending there, in index order (the order of m.Spans)
+	if n.spanIdx != nil {
+		for _, id := range m.Spans {
+			at = append(at, n.spanIdx[id])
+		}
+	} else {
+		for i := range n.Spans {
+			if s := &n.Spans[i]; s.From == junction || s.To == junction {
+				at = append(at, i)
+			}
 		}
 	}
 	for _, run := range n.RunsAt(junction, at) {

@@ -55,3 +55,32 @@ func BenchmarkDuctBankAssign(b *testing.B) {
 		bank.Assign(ods)
 	}
 }
+
+// BenchmarkDuctBankSpread packs the cables of a crowded bank (first fit puts 12 of them in one
+// duct of six) first fit, then spread, against Pull alone; and a large bank, 2,000 cables in
+// 200 ducts, as a campus trunk of many innerduct-free cables would have.
+func BenchmarkDuctBankSpread(b *testing.B) {
+	small := DuctBank{Ducts: 6, IDMM: 102}
+	smallODs := []float64{22, 15.5, 30, 15.5, 9, 22, 41, 12, 18, 18, 25, 9}
+	large := DuctBank{Ducts: 200, IDMM: 100}
+	var largeODs []float64
+	for i := range 2000 {
+		largeODs = append(largeODs, []float64{10, 10.5, 13, 18}[i%4])
+	}
+	for _, c := range []struct {
+		name string
+		bank DuctBank
+		ods  []float64
+	}{{"6_ducts_12_cables", small, smallODs}, {"200_ducts_2000_cables", large, largeODs}} {
+		b.Run("pull_"+c.name, func(b *testing.B) {
+			for b.Loop() {
+				c.bank.Pull(c.ods)
+			}
+		})
+		b.Run("spread_"+c.name, func(b *testing.B) {
+			for b.Loop() {
+				c.bank.Spread(c.ods, false, nil)
+			}
+		})
+	}
+}

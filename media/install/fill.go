@@ -192,13 +192,16 @@ type DuctBank struct {
 	IDMM  float64 // internal diameter of each duct, mm
 }
 
-// Assignment is how Assign placed cables into the ducts of a DuctBank.
+// Assignment is how Assign, Pull or Spread placed cables into the ducts of a DuctBank.
 type Assignment struct {
-	Ducts    []Fill // fill of each duct, in duct order; cables appear in the order placed
-	DuctOf   []int  // for each input cable (input order), its 0-based duct, or -1 if it fits none
-	Unplaced int    // number of cables with DuctOf -1
-	OK       bool   // inputs valid and every cable placed
-	Err      error  // non-nil when the bank or a cable OD is invalid; then nothing is placed
+	Ducts []Fill // fill of each duct, in duct order; cables appear in the order placed
+	// Cables is, for each duct, the input indices of its cables in the order placed (parallel
+	// to Ducts[d].CablesODMM).
+	Cables   [][]int
+	DuctOf   []int // for each input cable (input order), its 0-based duct, or -1 if it fits none
+	Unplaced int   // number of cables with DuctOf -1
+	OK       bool  // inputs valid and every cable placed
+	Err      error // non-nil when the bank or a cable OD is invalid; then nothing is placed
 }
 
 // Assign packs cables of the given outside diameters (mm) into the bank's ducts, first fit
@@ -253,12 +256,14 @@ func (b DuctBank) pack(cableODsMM []float64, order []int) Assignment {
 		return a
 	}
 	held := make([][]float64, b.Ducts)
+	a.Cables = make([][]int, b.Ducts)
 	loads := make([]Load, b.Ducts)
 	for _, c := range order {
 		od := cableODsMM[c]
 		for d := range loads {
 			if loads[d].Takes(b.IDMM, od) {
 				held[d] = append(held[d], od)
+				a.Cables[d] = append(a.Cables[d], c)
 				loads[d].Add(od)
 				a.DuctOf[c] = d
 				break

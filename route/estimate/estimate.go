@@ -1,6 +1,7 @@
 package estimate
 
 import (
+	"cmp"
 	"context"
 	"fmt"
 	"maps"
@@ -711,10 +712,11 @@ func (r *run) lateralEnd(b, id string, sp *geo.Span) (own, carried geo.Entry) {
 }
 
 // ductFill checks every duct of every span of limited capacity that carries cable, with
-// the chosen cables' outside diameters, packed as the optimizer packs them
-// (install.DuctBank.Pull: first fit by install.Load.Takes, in the optimizer's order,
-// routing.SegmentFill.Links), and the ducts of new construction. Cables that fit no duct get
-// a row of their own, not OK.
+// the chosen cables' outside diameters, in the optimizer's order (routing.SegmentFill.Links),
+// and the ducts of new construction. Which cable goes in which duct is install.DuctBank.Spread:
+// the cables first fit places (install.DuctBank.Pull, as the optimizer packs them, in the
+// ducts it counted), spread over the span's empty ducts before a duct gets more loose cables
+// than a sound set of pulls. Cables that fit no duct get a row of their own, not OK.
 func (r *run) ductFill() {
 	e := r.Estimate
 	var design plan.Design // a Result assembled by hand may lack its plan
@@ -769,9 +771,16 @@ func (r *run) ductFill() {
 		}
 		return ods, legs
 	}
-	// legsIn names the legs of the cables a packing put in duct d (-1: in none).
+	// legsIn names the legs of the cables a packing put in duct d, in the order placed (the
+	// order of the duct's CablesODMM), or, for d -1, of those in none, in input order.
 	legsIn := func(a install.Assignment, legs []string, d int) []string {
 		var out []string
+		if d >= 0 {
+			for _, i := range a.Cables[d] {
+				out = append(out, legs[i])
+			}
+			return out
+		}
 		for i, at := range a.DuctOf {
 			if at == d {
 				out = append(out, legs[i])
@@ -811,19 +820,137 @@ func (r *run) ductFill() {
 	// which it priced), its cables packed in the optimizer's order. An opened duct span is
 	// built to size, so every duct of it is new (Ducts 0) and only a cable no empty duct
 	// takes is left out.
-	r.newDucts = map[string]int{}
+	type limited struct {
+		f    routing.SegmentFill
+		sp   geo.Span
+		bank install.DuctBank
+		ods  []float64
+		legs []string
+		a    install.Assignment
+	}
+	var spans []*limited
 	for _, f := range r.Fill {
 		if f.Limited {
 			sp, _ := r.Site.Net.Span(f.Span)
 			ods, legs := cables(f.Span, f.Links)
-			bank := install.DuctBank{Ducts: f.Ducts + f.AddedDucts, IDMM: sp.DuctMM}
-			hint := ""
-			if sp.Status == geo.StatusProposed {
-				r.newDucts[f.Span] = f.AddedDucts
-				hint = "; each too large for an empty duct (one cable: 53 % fill)"
-			}
-			pack(&sp, f.Ducts, bank.Pull(ods), ods, legs, hint)
+			spans = append(spans, &limited{f: f, sp: sp, bank: install.DuctBank{Ducts: f.Ducts + f.AddedDucts, IDMM: sp.DuctMM}, ods: ods, legs: legs})
 		}
+	}
+	// A cable carried on from one span into the next of its leg in the same duct (geo's
+	// PassStraight: pieces of one pathway, or one run of duct through a junction) keeps its
+	// duct number where the two spans have ducts of one size: the spans are packed the
+	// fullest first (then the longest; the id only breaks an exact tie), each cable preferring
+	// the duct it holds on such a span next to it already packed (install.DuctBank.Spread). A
+	// duct number the span does not have is no preference. Where the cable turns into another
+	// pathway at a structure, it takes whichever duct the packing gives it.
+	packOrder := slices.Clone(spans)
+	slices.SortStableFunc(packOrder, func(a, b *limited) int {
+		return cmp.Or(cmp.Compare(len(b.ods), len(a.ods)), cmp.Compare(b.sp.LengthM, a.sp.LengthM), strings.Compare(a.sp.ID, b.sp.ID))
+	})
+	// carriedOn lists, for each leg, the spans it passes from one into the next in one duct,
+	// both ways: span → the spans next to it on the leg so.
+	carriedOn := map[string]map[string][]string{}
+	isLimited := map[string]bool{}
+	for _, x := range spans {
+		isLimited[x.sp.ID] = true
+	}
+	straight := map[[3]string]bool{} // PassAt, once per junction and pair of spans (it may scan the network)
+	for i := range r.Legs {
+		l := &r.Legs[i]
+		for k := 1; k < len(l.Steps); k++ {
+			a, b := l.Steps[k-1], l.Steps[k]
+			if !isLimited[a.SpanID] || !isLimited[b.SpanID] {
+				continue
+			}
+			sa, _ := r.Site.Net.Span(a.SpanID)
+			at := sa.To
+			if a.Reverse {
+				at = sa.From
+			}
+			pair := [3]string{at, a.SpanID, b.SpanID}
+			is, seen := straight[pair]
+			if !seen {
+				pass, ok := r.Site.Net.PassAt(at, a.SpanID, b.SpanID)
+				is = ok && pass == geo.PassStraight
+				straight[pair] = is
+			}
+			if !is {
+				continue
+			}
+			if carriedOn[l.Label()] == nil {
+				carriedOn[l.Label()] = map[string][]string{}
+			}
+			carriedOn[l.Label()][a.SpanID] = append(carriedOn[l.Label()][a.SpanID], b.SpanID)
+			carriedOn[l.Label()][b.SpanID] = append(carriedOn[l.Label()][b.SpanID], a.SpanID)
+		}
+	}
+	// The spans are packed outward from the fullest along the ducts cables are carried on in
+	// (breadth first, the fuller next span first), so a span is packed next to one already
+	// packed wherever one is.
+	byID, rank := map[string]*limited{}, map[string]int{}
+	for k, x := range packOrder {
+		byID[x.sp.ID], rank[x.sp.ID] = x, k
+	}
+	next := map[string][]string{} // span → the limited spans a cable is carried on into from it
+	for _, on := range carriedOn {
+		for a, bs := range on {
+			for _, b := range bs {
+				if byID[a] != nil && byID[b] != nil && !slices.Contains(next[a], b) {
+					next[a] = append(next[a], b)
+				}
+			}
+		}
+	}
+	var order []*limited
+	queued := map[string]bool{}
+	for _, seed := range packOrder {
+		if queued[seed.sp.ID] {
+			continue
+		}
+		queued[seed.sp.ID] = true
+		for queue := []*limited{seed}; len(queue) > 0; queue = queue[1:] {
+			x := queue[0]
+			order = append(order, x)
+			ns := next[x.sp.ID]
+			slices.SortFunc(ns, func(a, b string) int { return cmp.Compare(rank[a], rank[b]) })
+			for _, n := range ns {
+				if !queued[n] {
+					queued[n] = true
+					queue = append(queue, byID[n])
+				}
+			}
+		}
+	}
+	packed := map[string]*limited{}
+	ductsOf := map[string]map[string][]int{} // span → leg → the duct of each of its cables there
+	for _, x := range order {
+		prefer := make([]int, len(x.ods))
+		nth := map[string]int{}
+		for i, leg := range x.legs {
+			j := nth[leg]
+			nth[leg]++
+			prefer[i] = -1
+			for _, next := range carriedOn[leg][x.sp.ID] {
+				if y := packed[next]; prefer[i] < 0 && y != nil && y.bank.IDMM == x.bank.IDMM && j < len(ductsOf[next][leg]) {
+					prefer[i] = ductsOf[next][leg][j]
+				}
+			}
+		}
+		x.a = x.bank.Spread(x.ods, design.Innerduct(), prefer)
+		packed[x.sp.ID] = x
+		ductsOf[x.sp.ID] = map[string][]int{}
+		for i, leg := range x.legs {
+			ductsOf[x.sp.ID][leg] = append(ductsOf[x.sp.ID][leg], x.a.DuctOf[i])
+		}
+	}
+	r.newDucts = map[string]int{}
+	for _, x := range spans {
+		hint := ""
+		if x.sp.Status == geo.StatusProposed {
+			r.newDucts[x.sp.ID] = x.f.AddedDucts
+			hint = "; each too large for an empty duct (one cable: 53 % fill)"
+		}
+		pack(&x.sp, x.f.Ducts, x.a, x.ods, x.legs, hint)
 	}
 }
 

@@ -30,7 +30,9 @@ func innerduct33(p *plan.Plan) { p.Design.InnerductODMM, p.Design.InnerductIDMM 
 // cable is in a duct the plan has (spare, or laid: the optimizer's count, routing.SegmentFill).
 // It returns the number of cables in no duct on existing spans. New construction is built to
 // size (optimize.Edge.LaidDucts): every duct new, at least the design's, every cable in one of
-// them, every row OK, and a span laid with more than the design's is listed in SizedDucts.
+// them, every row OK, and a span laid with more than the design's is listed in SizedDucts. No
+// duct is given more loose cables than a sound set of pulls (install.Crowded; common practice,
+// no published source) while a duct of its span stays empty (install.DuctBank.Spread).
 func fillHolds(t *testing.T, r *route.Result) (unplaced int) {
 	t.Helper()
 	routed := map[string]int{}
@@ -89,6 +91,38 @@ func fillHolds(t *testing.T, r *route.Result) (unplaced int) {
 		case opened[f.Span] && (!f.OK || !f.Added):
 			t.Errorf("span %s duct %d: %v, fill %.1f %%, jam risk %v, added %v: not a new duct, OK, in new construction built to size",
 				f.Span, f.Duct, f.CablesODMM, f.FillPct, f.JamRisk, f.Added)
+		}
+	}
+	// Each row names the leg of each of its cables, in the order of their diameters.
+	odOf := map[string]float64{}
+	for _, l := range r.Legs {
+		od := l.Cable.Size.ODMM
+		if r.Plan.Design.Innerduct() {
+			od = r.Plan.Design.InnerductODMM
+		}
+		odOf[l.Label()] = od
+	}
+	used, crowded := map[string]int{}, map[string]int{}
+	for _, f := range r.Estimate.Fill {
+		if len(f.Legs) != len(f.CablesODMM) {
+			t.Errorf("span %s duct %d: %d legs for %d cables", f.Span, f.Duct, len(f.Legs), len(f.CablesODMM))
+		} else {
+			for k, l := range f.Legs {
+				if odOf[l] != f.CablesODMM[k] {
+					t.Errorf("span %s duct %d: cable %d of %g mm named for leg %s of %g mm", f.Span, f.Duct, k+1, f.CablesODMM[k], l, odOf[l])
+				}
+			}
+		}
+		if !f.Unplaced {
+			used[f.Span]++
+			if install.Crowded(len(f.CablesODMM), f.Innerduct) {
+				crowded[f.Span] = f.Duct
+			}
+		}
+	}
+	for span, d := range crowded {
+		if used[span] < ducts[span] {
+			t.Errorf("span %s: duct %d crowded while %d of its %d ducts stay empty", span, d, ducts[span]-used[span], ducts[span])
 		}
 	}
 	for span, n := range inRows {
@@ -216,6 +250,14 @@ func TestJamGeneratedCampuses(t *testing.T) {
 				if len(r.Estimate.Fill) == 0 {
 					t.Fatal("no duct fill rows: the campus tests nothing")
 				}
+				// Loose cables carried on into the next piece of their pathway keep their duct
+				// number (install.DuctBank.Spread's preferences). Innerducts mostly do; where the
+				// plan lays a different number of ducts along the pieces, a few change.
+				changed, carried, first := ductChanges(r)
+				if !inner && changed != 0 {
+					t.Errorf("%d of %d cables carried on into the next piece of their pathway change duct (%s)", changed, carried, first)
+				}
+				t.Logf("%d of %d cables carried on change duct", changed, carried)
 			})
 		}
 	}

@@ -2,12 +2,14 @@ package metamorphic_test
 
 import (
 	"fmt"
+	"maps"
 	"math"
 	"math/rand/v2"
 	"slices"
 	"strings"
 	"testing"
 
+	"spanwright/route"
 	"spanwright/route/internal/campusgen"
 	"spanwright/route/output"
 )
@@ -68,6 +70,20 @@ func TestRenameIDs(t *testing.T) {
 					t.Errorf("trial %d: leg %s: got %s, want %s", trial, key, got, want[key])
 				}
 			}
+			// Every span's ducts hold the same cables, of the same legs, in the same order
+			// (estimate.DuctFill: first fit, spread over empty ducts by install.DuctBank.Spread).
+			if got, want := ductDigest(res, back), ductDigest(base, nil); !maps.Equal(got, want) {
+				for k, w := range want {
+					if got[k] != w {
+						t.Errorf("trial %d: %s holds %q, want %q", trial, k, got[k], w)
+					}
+				}
+				for k, g := range got {
+					if _, ok := want[k]; !ok {
+						t.Errorf("trial %d: %s holds %q, want nothing", trial, k, g)
+					}
+				}
+			}
 			a, b := output.Summarize(base), output.Summarize(res)
 			if a.Infeasible != b.Infeasible {
 				t.Errorf("trial %d: infeasible legs %d → %d", trial, a.Infeasible, b.Infeasible)
@@ -78,4 +94,30 @@ func TestRenameIDs(t *testing.T) {
 			}
 		}
 	})
+}
+
+// ductDigest is what each duct of each span holds: its cables' legs (from>to/name) in the order
+// pulled, keyed by span and duct, with every id named back by back (nil: as it is).
+func ductDigest(res *route.Result, back map[string]string) map[string]string {
+	name := func(id string) string {
+		if back == nil {
+			return id
+		}
+		return back[id]
+	}
+	legs := map[string]string{}
+	for i := range res.Legs {
+		l := &res.Legs[i]
+		legs[l.Label()] = name(l.Link.From) + ">" + name(l.Link.To) + "/" + l.Name
+	}
+	out := map[string]string{}
+	for _, f := range res.Estimate.Fill {
+		var in []string
+		for _, lbl := range f.Legs {
+			in = append(in, legs[lbl])
+		}
+		key := fmt.Sprintf("span %s%s duct %d", name(f.PathwayID), strings.TrimPrefix(f.Span, f.PathwayID), f.Duct)
+		out[key] = strings.Join(in, " ")
+	}
+	return out
 }
