@@ -763,16 +763,24 @@ func (m *Model) addOption(s *site.Site, dm *optimize.Demand, info *demandInfo, m
 		maxCh = m.reachM(s, med, lay, rate, future, facts, true)
 		if lay.Inside != "" {
 			price := l.price
-			// The inside cable in the end buildings instead of the outside-plant cable there,
-			// the enclosures and trays at both entrances and the splicing (media.Engine's cost).
-			insideM := items.Wasted(d, facts.InsideAM+facts.InsideBM)
+			// The inside cable in the buildings of the transition's ends instead of the
+			// outside-plant cable there, the enclosures and trays at those entrances and the
+			// splicing (media.Engine's cost).
+			insideM := 0.0
+			if lay.At.Has(media.EndA) {
+				insideM += facts.InsideAM
+			}
+			if lay.At.Has(media.EndB) {
+				insideM += facts.InsideBM
+			}
+			insideM = items.Wasted(d, insideM)
 			transition = media.MulCents(price.InsidePerMCents, insideM) - media.MulCents(price.PerMCents, insideM) +
 				price.HardwareCents + price.LabourCents
-			// Each inside cable's two ends, one at the entrance and one in the telecom room, at
-			// both buildings: prepared by the crew, with the bid items per cable end, as the
-			// bill counts them (CableTakeoff.CableEnds).
-			ends := float64(4 * price.InsideCables)
-			transition += m.cents(items.Crew(m.prices, media.CrewCableEndPrep, ends)...) + m.cents(m.bidItems(media.BidBases{CableEnds: 4 * price.InsideCables})...)
+			// Each inside cable's two ends, one at the entrance and one in the telecom room, in
+			// each building of the transition: prepared by the crew, with the bid items per
+			// cable end, as the bill counts them (CableTakeoff.CableEnds).
+			ends := 2 * price.InsideCables * lay.At.Count()
+			transition += m.cents(items.Crew(m.prices, media.CrewCableEndPrep, float64(ends))...) + m.cents(m.bidItems(media.BidBases{CableEnds: ends})...)
 		}
 	}
 	// The route may take what the channel leaves of the reach: the channel also holds the
