@@ -474,7 +474,7 @@ func (e *Engine) evaluate(c *candidate, l Link, at lengths, mi, ai, ki int, v va
 	}
 	f[fConnectorPairs].num = float64(l.ConnectorPairs)
 	f[fSplices].num = float64(c.splices)
-	f[fTransition].b = c.inside != nil
+	f[fTransition].b = c.at == EndsBoth
 	f[fTransitionA].b, f[fTransitionB].b = c.at.Has(EndA), c.at.Has(EndB)
 	f[fStrands].num = float64(c.strands)
 	f[fKind].str = m.Kind

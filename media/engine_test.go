@@ -1045,3 +1045,23 @@ func TestTransitionPerEnd(t *testing.T) {
 		t.Errorf("no enclosure price: feasible %v, reason %q, want %q", ch.Feasible, ch.Reason, want)
 	}
 }
+
+// TestTransitionFactBothEnds: the fact transition keeps its meaning, spliced at both
+// entrances, so that a rules file written before transitions could be at one end (such as
+// this one, the shipped entrance-15m rule as it was) refuses a transition at one end where
+// the other end runs over 15 m (NFPA 70 770.48, seen as fragment) instead of letting it pass.
+func TestTransitionFactBothEnds(t *testing.T) {
+	t.Parallel()
+	old, err := ParseRules("old-rules.yaml", []byte(strings.Replace(string(rulesYAML),
+		"when: outdoor and not construction_listed and unspliced_inside_max_m > 15",
+		"when: outdoor and not construction_listed and not transition and inside_max_m > 15", 1)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	e := newEngine(t, nil, old, EngineOptions{})
+	ch := e.Choose(Link{ID: "ADM-CAF", RouteM: 1000, RiserM: 17.5, SlackM: 16, RateGbps: 10, Outdoor: true, ConnectorPairs: 2, Strands: 12,
+		PathwayTypes: []string{"buried"}, InsideAM: 19.5, InsideBM: 14, EndA: "CAF", EndB: "ADM"})
+	if !ch.Feasible || ch.Inside != "ofnr-riser" || ch.InsideAt != EndsBoth {
+		t.Errorf("with the rule as it was: %s spliced to %q at %v, want both entrances: %s", ch.Construction, ch.Inside, ch.InsideAt, ch.Reason)
+	}
+}

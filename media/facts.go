@@ -99,7 +99,7 @@ var facts = [nFacts]Fact{
 	fPlenum:                   boolFact("plenum", "part of the route runs in a plenum (an air-handling space)"),
 	fConnectorPairs:           numFact("connector_pairs", "mated connector pairs in the channel"),
 	fSplices:                  numFact("splices", "splices in the channel, entrance transitions included"),
-	fTransition:               boolFact("transition", "the outside-plant cable is spliced to listed inside cable at the entrance of one end building or both (transition_a, transition_b), and the inside cable runs inside that building"),
+	fTransition:               boolFact("transition", "the outside-plant cable is spliced at both entrances to listed inside cable, which runs inside the end buildings; false with a transition at one end only (transition_a, transition_b), so that a rule written when transitions were at both ends or none stays as strict"),
 	fTransitionA:              boolFact("transition_a", "the cable is spliced to listed inside cable at the entrance of end_a, which the inside cable then runs inside"),
 	fTransitionB:              boolFact("transition_b", "the cable is spliced to listed inside cable at the entrance of end_b, which the inside cable then runs inside"),
 	fStrands:                  numFact("strands", "strands the link needs (4-pair cables for copper)"),
