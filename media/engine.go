@@ -879,7 +879,7 @@ func (e *Engine) WhyNotLaid(medium string, lay Laying, rateGbps float64, l Link)
 			return false
 		case least < 0 || c.nFailed < least:
 			rule := e.rules.Rules[c.failed]
-			why, least = fmt.Sprintf("%s on %s rejected by %s: %s", c.m.ID, lay, rule.ID, rule.reason.render(c.f[:])), c.nFailed
+			why, least = fmt.Sprintf("%s on %s rejected by %s: %s", c.m.ID, lay.on(l), rule.ID, rule.reason.render(c.f[:])), c.nFailed
 		}
 		return true
 	})
@@ -887,7 +887,7 @@ func (e *Engine) WhyNotLaid(medium string, lay Laying, rateGbps float64, l Link)
 	case passes:
 		return ""
 	case why == "":
-		return fmt.Sprintf("%s on %s: no such laying at %s on this link", medium, lay, FormatRate(rateGbps))
+		return fmt.Sprintf("%s on %s: no such laying at %s on this link", medium, lay.on(l), FormatRate(rateGbps))
 	}
 	return why
 }
@@ -1172,17 +1172,21 @@ func layingOf(k *Construction, v variant) Laying {
 	return Laying{Construction: k.ID, Inside: v.inside.ID, At: v.at}
 }
 
-// String is the laying in words, for the optimizer's option names: "osp-loose-tube +
-// ofnr-riser at entrances" with a transition at both ends, "… at the first end's entrance"
-// or "… at the other end's entrance" (end_a, end_b) at one.
-func (l Laying) String() string {
+// String is the laying in words: "osp-loose-tube + ofnr-riser at entrances" with a
+// transition at both ends, "… at the first end's entrance" or "… at the other end's
+// entrance" (end_a, end_b) at one.
+func (l Laying) String() string { return l.on(Link{}) }
+
+// on is the laying in words on link k, naming the end of a transition at one end by its
+// building (Link.EndA, EndB) when k names it: "… at CAF entrance".
+func (l Laying) on(k Link) string {
 	switch {
 	case l.Inside == "":
 		return l.Construction
 	case l.At == EndA:
-		return l.Construction + " + " + l.Inside + " at the first end's entrance"
+		return l.Construction + " + " + l.Inside + " at " + cmp.Or(k.EndA, "the first end's") + " entrance"
 	case l.At == EndB:
-		return l.Construction + " + " + l.Inside + " at the other end's entrance"
+		return l.Construction + " + " + l.Inside + " at " + cmp.Or(k.EndB, "the other end's") + " entrance"
 	}
 	return l.Construction + " + " + l.Inside + " at entrances"
 }

@@ -1031,6 +1031,17 @@ func TestTransitionPerEnd(t *testing.T) {
 			t.Errorf("%s: %s spliced to %q at %v, want %q at %v: %s", c.name, ch.Construction, ch.Inside, ch.InsideAt, c.inside, c.at, ch.Reason)
 		}
 	}
+	// Routing prices and reaches a route over buried spans as the same laying: spliced at CAF
+	// alone, one splice fewer than at both, so it reaches further.
+	lay, price, ok := e.LayingFor("os2", 10, l)
+	if want := (Laying{Construction: "osp-loose-tube", Inside: "ofnr-riser", At: EndA}); !ok || lay != want || lay.on(l) != "osp-loose-tube + ofnr-riser at CAF entrance" ||
+		price.HardwareCents != 26000+3800 {
+		t.Errorf("LayingFor: %v (%q, %v), hardware %d cents, want %v at CAF's entrance, 29800", lay, lay.on(l), ok, price.HardwareCents, want)
+	}
+	bothLay := Laying{Construction: "osp-loose-tube", Inside: "ofnr-riser", At: EndsBoth}
+	if r1, r2 := e.MaxChannelMAs("os2", lay, 10, 0, l), e.MaxChannelMAs("os2", bothLay, 10, 0, l); !(r1 > r2 && r2 > 0) {
+		t.Errorf("reach spliced at CAF %.1f m, at both %.1f m; want the one end's longer", r1, r2)
+	}
 	// Without the enclosure's price, no transition: the rule names the longer end.
 	book, err := ParsePriceBook("no-transition.yaml", []byte(strings.Replace(string(pricesYAML), "transition_splice_each: 260.00", "", 1)))
 	if err != nil {

@@ -76,7 +76,7 @@ func TestBuriedSpansLaidRated(t *testing.T) {
 			if !k.DirectBurialRated {
 				t.Errorf("transition priced %v: leg %s %s on buried %s: %s is not rated for direct burial", priced, l.Link.ID, l.Name, strings.Join(buried, ", "), k.ID)
 			}
-			if l.Option != l.Medium+" as "+l.Laying().String() && l.Option != l.Medium {
+			if l.Option != l.Medium+" as "+l.ConstructionText() && l.Option != l.Medium {
 				t.Errorf("transition priced %v: leg %s %s laid as %s, routed in option %q", priced, l.Link.ID, l.Name, l.ConstructionText(), l.Option)
 			}
 			if strings.Contains(l.Choice, "the optimizer routed it for") {

@@ -566,12 +566,17 @@ type demandInfo struct {
 // first option (priced as the cheapest cable its ends allow, media.Engine.CableLayingFor), the
 // medium and the laying for an option that may use spans the first may not (a buried span,
 // laid as outside-plant cable spliced at the entrances): "os2 as osp-loose-tube + ofnr-riser
-// at entrances".
-func optionName(medium string, lay media.Laying, first bool) string {
+// at entrances", or at one end "… at CAF entrance", as the leg's construction reads
+// (Leg.ConstructionText) with its link's ends, a the served building (media.EndA) and b the
+// cross-connect's.
+func optionName(medium string, lay media.Laying, first bool, a, b string) string {
 	if first {
 		return medium
 	}
-	return medium + " as " + lay.String()
+	if lay.Inside == "" {
+		return medium + " as " + lay.Construction
+	}
+	return medium + " as " + lay.Construction + " + " + lay.Inside + " " + transitionText(lay.At, a, b)
 }
 
 // optionMedium is the medium of an option named by optionName (catalog ids hold no space).
@@ -742,7 +747,7 @@ func (m *Model) addOption(s *site.Site, dm *optimize.Demand, info *demandInfo, m
 	d := m.design
 	facts, rate, future := info.facts, info.rate, info.facts.FutureRateGbps
 	lay, perM := l.laying, l.price.PerMCents
-	name := optionName(med, lay, first)
+	name := optionName(med, lay, first, facts.EndA, facts.EndB)
 	mm := m.eng.Catalog().Medium(med)
 	var maxCh float64
 	var transition int64 // what a transition adds whatever the route

@@ -50,25 +50,29 @@ func (l *Leg) ConstructionText() string {
 	return l.Construction + " + " + l.Inside + " " + l.TransitionText()
 }
 
-// Laying is the leg's cable as the media engine names a laying: its construction, and with
-// an entrance transition the inside construction and the transition's ends (InsideAt); the
-// optimizer's option for such a laying is named by it (optionName).
-func (l *Leg) Laying() media.Laying {
-	return media.Laying{Construction: l.Construction, Inside: l.Inside, At: l.InsideAt}
-}
-
 // TransitionText says where the leg's entrance transition is, as outputs write it after the
 // cables spliced there: "at entrances" at both ends, "at CAF entrance" at one (the
 // building's id); "" without a transition.
 func (l *Leg) TransitionText() string {
-	at := l.TransitionAt()
-	switch len(at) {
-	case 0:
+	if l.Inside == "" || l.Link == nil {
 		return ""
-	case 1:
-		return "at " + at[0] + " entrance"
 	}
-	return "at entrances"
+	return transitionText(l.InsideAt, l.Link.To, l.Link.From)
+}
+
+// transitionText is where a transition at the ends at is, a the building at media.EndA (the
+// served one) and b at media.EndB: "at entrances" at both, "at CAF entrance" at one, "" at
+// none. It is the one wording of the leg's construction, jacket and option names.
+func transitionText(at media.Ends, a, b string) string {
+	switch at {
+	case media.EndsBoth:
+		return "at entrances"
+	case media.EndA:
+		return "at " + a + " entrance"
+	case media.EndB:
+		return "at " + b + " entrance"
+	}
+	return ""
 }
 
 // TransitionAt is the buildings at whose entrances the leg's cable is spliced to inside cable:
