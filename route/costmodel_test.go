@@ -26,8 +26,9 @@ import (
 )
 
 // costBook is a price book that prices every item of the catalog and the bill, none at zero:
-// the embedded demo book (invented prices) with the entrance transition priced out of reach,
-// so that no leg takes one (the optimizer does not model them; see the README).
+// the embedded demo book (invented prices) with the entrance transition priced at 90,000.00
+// an enclosure; legs still take one where the routes around buried spans cost more (seeds 1-4:
+// 6 to 29 transition ends), and modelGap counts them at the ends they splice.
 func costBook(t *testing.T, edits ...string) []byte {
 	t.Helper()
 	data, err := os.ReadFile(filepath.Join("..", "media", "prices-demo.yaml"))
