@@ -208,8 +208,8 @@ func (e *Engine) budgetPoints(points []float64, l Link, a *Application, m *Mediu
 		if lay.Construction != "" && k.ID != lay.Construction {
 			continue
 		}
-		for _, extra := range []int{0, 2} { // without and with an entrance transition
-			if lay.Construction != "" && (extra == 2) != (lay.Inside != "") {
+		for _, extra := range []int{0, 1, 2} { // without an entrance transition, with one at one end, at both
+			if lay.Construction != "" && extra != lay.At.Count() {
 				continue
 			}
 			splices := l.Splices + e.termSplices(m) + extra

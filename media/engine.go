@@ -296,20 +296,23 @@ type candidate struct {
 	strands    int
 
 	// inside, when not nil, makes this a transition candidate: outside-plant construction k
-	// runs from entrance to entrance, spliced at each to inside, which takes the risers.
+	// is spliced to inside at the entrances of at, and inside takes what runs inside those
+	// buildings (the riser, coil, loop and in-building pathways).
 	inside      *Construction
+	at          Ends          // the ends of the transition; EndsNone when inside is nil
 	lossK       *Construction // k, or k and inside blended by length, for the loss budget
-	splices     int           // the link's splices, the termination splices and the two transition splices
+	splices     int           // the link's splices, the termination splices and one per transition end
 	labourCents int64         // splicing the transitions, part of costCents
 	b           budget        // the loss budget, on the reach-and-loss pair it uses
 	repair      int           // repair splices in the required margin
 }
 
-// label names the candidate's cable: its construction, and the inside one it is spliced to;
-// with the number of cables in front when the strands need more than one ("9 × outdoor"), and
-// for copper why so many: one 4-pair cable per port pair (copperCables). A reason that prices
-// copper against fibre otherwise hides that a 22 m copper run costs nine cables (tester 10's
-// finding 15).
+// label names the candidate's cable: its construction, with the number of cables in front
+// when the strands need more than one ("9 × outdoor"), and for copper why so many: one 4-pair
+// cable per port pair (copperCables) — a reason that prices copper against fibre otherwise
+// hides that a 22 m copper run costs nine cables (tester 10's finding 15); and the inside
+// construction it is spliced to and where ("at both entrances", "at the entrance of CAF").
+// The end facts (end_a, end_b) must be set.
 func (c *candidate) label() string {
 	id := c.k.ID
 	if _, n := c.k.Fit(c.strands); n > 1 {
@@ -318,10 +321,22 @@ func (c *candidate) label() string {
 			id += " (one 4-pair cable per port pair)"
 		}
 	}
-	if c.inside != nil {
+	switch {
+	case c.inside == nil:
+		return id
+	case c.at == EndsBoth:
 		return id + " spliced to " + c.inside.ID + " at both entrances"
+	case c.at == EndA:
+		return id + " spliced to " + c.inside.ID + " at the entrance of " + c.f[fEndA].str
 	}
-	return id
+	return id + " spliced to " + c.inside.ID + " at the entrance of " + c.f[fEndB].str
+}
+
+// variant is one way of laying a construction: as it is (a nil inside), or spliced at the
+// entrances of at to the listed construction inside.
+type variant struct {
+	inside *Construction
+	at     Ends
 }
 
 // transitionInside is the listed construction a transition candidate of construction k
@@ -360,16 +375,30 @@ func transitionLink(l Link) bool {
 }
 
 // variants lists the candidates of construction k of medium m for application a: the
-// construction as it is (a nil inside), then its entrance transition when it has one.
-func (e *Engine) variants(l Link, a *Application, m *Medium, k *Construction) []*Construction {
-	if in := e.transitionInside(l, m, k, strandsFor(l, a, m)); in != nil {
-		return []*Construction{nil, in}
+// construction as it is (a nil inside), then, when it may have an entrance transition, the
+// transition at the first end only, at the other only and at both (an end with no cable
+// inside its building has none). Which of them the rules let carry the link (the 15 m of
+// unlisted cable past an entrance judged at each end) and which costs least decides: a
+// transition where the outside-plant cable may run to the telecom room costs an enclosure,
+// splicing and cable ends for nothing, so it is chosen only at the ends that need one.
+func (e *Engine) variants(l Link, a *Application, m *Medium, k *Construction) []variant {
+	in := e.transitionInside(l, m, k, strandsFor(l, a, m))
+	if in == nil {
+		return asItIs
 	}
-	return asItIs
+	ia, ib := l.insideM()
+	vs := []variant{{}}
+	for _, at := range []Ends{EndA, EndB, EndsBoth} {
+		if (at.Has(EndA) && ia <= 0) || (at.Has(EndB) && ib <= 0) {
+			continue
+		}
+		vs = append(vs, variant{inside: in, at: at})
+	}
+	return vs
 }
 
 // asItIs is the variants of a construction without a transition; read only.
-var asItIs = []*Construction{nil}
+var asItIs = []variant{{}}
 
 // blend is construction k with its attenuation mixed with inside's by length: insideM of
 // lengthM metres in the inside construction, the rest in k. Only the attenuation is used.
@@ -433,16 +462,17 @@ func trialLengths(l Link, channelM float64) lengths {
 }
 
 // evaluate computes the facts of one candidate at lengths at and applies the rules to it.
-func (e *Engine) evaluate(c *candidate, l Link, at lengths, mi, ai, ki int, inside *Construction) {
+func (e *Engine) evaluate(c *candidate, l Link, at lengths, mi, ai, ki int, v variant) {
 	m, a := e.cat.Media[mi], e.cat.Applications[ai]
 	k := m.Constructions[ki]
 	channel := at.channelM
 	prefer := c.prefer[:0] // a candidate evaluated again (feasibleAt's scratch) keeps its array
 	*c = candidate{m: m, a: a, k: k, mi: mi, ai: ai, ki: ki, failed: -1, strands: strandsFor(l, a, m),
 		lossK: k, splices: l.Splices + e.termSplices(m), prefer: prefer}
-	if inside != nil {
-		c.inside, c.splices = inside, c.splices+2
-		c.lossK = blend(k, inside, l.transitionInsideM(channel), channel)
+	if v.inside != nil {
+		c.inside, c.at, c.splices = v.inside, v.at, c.splices+v.at.Count()
+		ia, ib := l.transitionInsideM(channel, v.at)
+		c.lossK = blend(k, v.inside, ia+ib, channel)
 	}
 	c.repair = e.repairSplices(m, outsideM(l, at))
 	c.b = e.budgetFor(c.lossK, a, e.reachesOn(a, m), channel, l.ConnectorPairs, c.splices, e.requiredMarginDB(m, c.repair))
@@ -470,13 +500,13 @@ func (e *Engine) evaluate(c *candidate, l Link, at lengths, mi, ai, ki int, insi
 	}
 	f[fConnectorPairs].num = float64(l.ConnectorPairs)
 	f[fSplices].num = float64(c.splices)
-	f[fTransition].b = c.inside != nil
+	f[fTransition].b = c.at == EndsBoth
+	f[fTransitionA].b, f[fTransitionB].b = c.at.Has(EndA), c.at.Has(EndB)
 	f[fStrands].num = float64(c.strands)
 	f[fKind].str = m.Kind
 	f[fMedium].str = m.ID
 	f[fApplication].str = a.Name
 	f[fConstruction].str = k.ID
-	f[fCable].str = c.label()
 	f[fConstructionOutdoorRated].b = k.OutdoorRated
 	f[fConstructionListed].b = k.Listing != ""
 	f[fConstructionPlenumRated].b = k.PlenumRated
@@ -493,7 +523,15 @@ func (e *Engine) evaluate(c *candidate, l Link, at lengths, mi, ai, ki int, insi
 	f[fAllowOutdoorCopper].b = e.opt.AllowOutdoorCopper
 	ia, ib := l.insideM()
 	f[fInsideAM].num, f[fInsideBM].num, f[fInsideMaxM].num = ia, ib, max(ia, ib)
+	if c.at.Has(EndA) {
+		ia = 0
+	}
+	if c.at.Has(EndB) {
+		ib = 0
+	}
+	f[fUnsplicedInsideMaxM].num = max(ia, ib)
 	f[fEndA].str, f[fEndB].str = cmp.Or(l.EndA, "the building at one end"), cmp.Or(l.EndB, "the building at the other end")
+	f[fCable].str = c.label()
 	if !m.Fibre() {
 		f[fCordsM].num = e.cordsM
 		f[fCopperChannelM].num = channel + e.cordsM
@@ -531,7 +569,7 @@ func (e *Engine) evaluate(c *candidate, l Link, at lengths, mi, ai, ki int, insi
 		}
 	}
 	if c.failed < 0 {
-		c.cableCents, c.costCents = e.cost(c, channel, l.transitionInsideM(channel))
+		c.cableCents, c.costCents = e.cost(c, channel, l)
 	}
 }
 
@@ -603,17 +641,21 @@ func (e *Engine) future(l Link, c *candidate) {
 // for the strands) times the channel length, one termination per strand (per 4-pair cable
 // for copper) at each end, and one transceiver at each end. Two transceivers serve the link
 // whether the PHY is duplex (2 fibres) or parallel (8 fibres in one module each end).
-// Labour, pathway and enclosures are not part of it.
-func (e *Engine) cost(c *candidate, channelM float64, insideM float64) (cableCents, totalCents int64) {
-	p := e.layingPrice(c.m, c.k, c.inside, c.strands)
+// Labour, pathway and enclosures are not part of it. With a transition, the inside cable is
+// l's (Link.transitionInsideM) at the candidate's ends.
+func (e *Engine) cost(c *candidate, channelM float64, l Link) (cableCents, totalCents int64) {
+	p := e.layingPrice(c.m, c.k, c.inside, c.at, c.strands)
 	term, _ := e.prices.Price(PriceKey{Item: PriceTermination, Medium: c.m.ID})
 	trx, _ := e.prices.Price(PriceKey{Item: PriceTransceiver, Name: c.a.Transceiver})
 	if c.inside == nil {
 		cableCents = MulCents(p.PerMCents, channelM)
 		return cableCents, cableCents + 2*int64(c.strands)*term + 2*trx + c.b.attCents
 	}
-	// Outside-plant cable between the entrances, inside cable inside the end buildings, and
-	// at each entrance an enclosure with trays for every strand of the cable and the splicing.
+	// Outside-plant cable to the entrances of the transition, inside cable inside those
+	// buildings, and at each such entrance an enclosure with trays for every strand of the
+	// cable and the splicing.
+	ia, ib := l.transitionInsideM(channelM, c.at)
+	insideM := ia + ib
 	cableCents = MulCents(p.PerMCents, channelM-insideM) + MulCents(p.InsidePerMCents, insideM) + p.HardwareCents
 	c.labourCents = p.LabourCents
 	return cableCents, cableCents + c.labourCents + 2*int64(c.strands)*term + 2*trx + c.b.attCents
@@ -624,16 +666,16 @@ func (e *Engine) cost(c *candidate, channelM float64, insideM float64) (cableCen
 type LayingPrice struct {
 	PerMCents       int64 // the construction's cable per metre, all the cables the strands need
 	InsidePerMCents int64 // with a transition, the inside construction's per metre, all its cables; 0 without
-	HardwareCents   int64 // with a transition, the enclosures and splice trays at both entrances; 0 without
-	LabourCents     int64 // with a transition, splicing every strand at both entrances; 0 without
-	InsideCables    int   // with a transition, the cables of the inside construction at each end; 0 without
+	HardwareCents   int64 // with a transition, the enclosures and splice trays at the entrances of its ends; 0 without
+	LabourCents     int64 // with a transition, splicing every strand at the entrances of its ends; 0 without
+	InsideCables    int   // with a transition, the cables of the inside construction at each of its ends; 0 without
 }
 
 // layingPrice prices construction k of medium m for strands strands, spliced to inside at
-// both entrances when inside is not nil: one enclosure per outside cable and trays for every
-// strand it holds at each entrance (transition_splice_each, splice_tray), and the splicing at
+// the entrances of at when inside is not nil: at each, one enclosure per outside cable and
+// trays for every strand it holds (transition_splice_each, splice_tray), and the splicing at
 // the book's splices per hour.
-func (e *Engine) layingPrice(m *Medium, k, inside *Construction, strands int) LayingPrice {
+func (e *Engine) layingPrice(m *Medium, k, inside *Construction, at Ends, strands int) LayingPrice {
 	size, n := k.Fit(strands)
 	perM, _ := e.prices.Price(PriceKey{Item: PriceCable, Medium: m.ID, Construction: k.ID, Count: size.Count})
 	p := LayingPrice{PerMCents: perM * int64(n)}
@@ -646,10 +688,11 @@ func (e *Engine) layingPrice(m *Medium, k, inside *Construction, strands int) La
 	tray, _ := e.prices.Price(PriceKey{Item: PriceSpliceTray})
 	spliced := size.Count * n
 	p.InsidePerMCents, p.InsideCables = inPerM*int64(inN), inN
-	p.HardwareCents = 2 * (int64(n)*encl + int64(e.prices.TraysFor(spliced))*tray)
+	ends := at.Count()
+	p.HardwareCents = int64(ends) * (int64(n)*encl + int64(e.prices.TraysFor(spliced))*tray)
 	if hour, ok := e.prices.Price(PriceKey{Item: PriceLabourHour}); ok {
 		if rate, ok := e.prices.Rate(PriceKey{Item: RateSplice}); ok && rate > 0 {
-			p.LabourCents = int64(math.Round(float64(2*spliced) / rate * float64(hour)))
+			p.LabourCents = int64(math.Round(float64(ends*spliced) / rate * float64(hour)))
 		}
 	}
 	return p
@@ -743,7 +786,7 @@ func (e *Engine) choose(l Link) Choice {
 	}
 	type spec struct {
 		mi, ai, ki int
-		inside     *Construction
+		v          variant
 	}
 	var specs []spec
 	for ai, a := range e.cat.Applications {
@@ -755,8 +798,8 @@ func (e *Engine) choose(l Link) Choice {
 				continue
 			}
 			for ki, k := range m.Constructions {
-				for _, inside := range e.variants(l, a, m, k) {
-					specs = append(specs, spec{mi, ai, ki, inside})
+				for _, v := range e.variants(l, a, m, k) {
+					specs = append(specs, spec{mi, ai, ki, v})
 				}
 			}
 		}
@@ -775,7 +818,7 @@ func (e *Engine) choose(l Link) Choice {
 	var ok []*candidate
 	for i, s := range specs {
 		c := &pool[i]
-		e.evaluate(c, l, at, s.mi, s.ai, s.ki, s.inside)
+		e.evaluate(c, l, at, s.mi, s.ai, s.ki, s.v)
 		all[i] = c
 		if c.failed < 0 {
 			ok = append(ok, c)
@@ -798,7 +841,9 @@ func (e *Engine) choose(l Link) Choice {
 			ch.Termination = e.termination
 		}
 		if win.inside != nil {
-			ch.Inside, ch.InsideM = win.inside.ID, l.transitionInsideM(at.channelM)
+			ch.Inside, ch.InsideAt = win.inside.ID, win.at
+			ch.InsideAM, ch.InsideBM = l.transitionInsideM(at.channelM, win.at)
+			ch.InsideM = ch.InsideAM + ch.InsideBM
 		}
 	}
 	var summary []string
@@ -852,15 +897,15 @@ func (e *Engine) UntriedTransition(medium string, l Link) string {
 // that fails the fewest, as a Rejection's; "" when it passes.
 func (e *Engine) WhyNotLaid(medium string, lay Laying, rateGbps float64, l Link) string {
 	why, least, passes := "", -1, false
-	e.eachLaying(medium, rateGbps, l, func(c *candidate, k, inside *Construction) bool {
+	e.eachLaying(medium, rateGbps, l, func(c *candidate, laid Laying) bool {
 		switch {
-		case layingOf(k, inside) != lay:
+		case laid != lay:
 		case c.failed < 0:
 			passes = true
 			return false
 		case least < 0 || c.nFailed < least:
 			rule := e.rules.Rules[c.failed]
-			why, least = fmt.Sprintf("%s on %s rejected by %s: %s", c.m.ID, lay, rule.ID, rule.reason.render(c.f[:])), c.nFailed
+			why, least = fmt.Sprintf("%s on %s rejected by %s: %s", c.m.ID, lay.on(l), rule.ID, rule.reason.render(c.f[:])), c.nFailed
 		}
 		return true
 	})
@@ -868,7 +913,7 @@ func (e *Engine) WhyNotLaid(medium string, lay Laying, rateGbps float64, l Link)
 	case passes:
 		return ""
 	case why == "":
-		return fmt.Sprintf("%s on %s: no such laying at %s on this link", medium, lay, FormatRate(rateGbps))
+		return fmt.Sprintf("%s on %s: no such laying at %s on this link", medium, lay.on(l), FormatRate(rateGbps))
 	}
 	return why
 }
@@ -880,7 +925,7 @@ func (e *Engine) WhyNotLaid(medium string, lay Laying, rateGbps float64, l Link)
 // until yield returns false. c is scratch, valid during the call only. It is what LayingFor
 // and WhyNotLaid judge, so the two weigh the same candidates. It panics on a medium not in
 // the catalog.
-func (e *Engine) eachLaying(medium string, rateGbps float64, l Link, yield func(c *candidate, k, inside *Construction) bool) {
+func (e *Engine) eachLaying(medium string, rateGbps float64, l Link, yield func(c *candidate, lay Laying) bool) {
 	m := e.mustMedium(medium)
 	mi := slices.Index(e.cat.Media, m)
 	l.RateGbps = rateGbps
@@ -891,9 +936,9 @@ func (e *Engine) eachLaying(medium string, rateGbps float64, l Link, yield func(
 			continue
 		}
 		for ki, k := range m.Constructions {
-			for _, inside := range e.variants(l, a, m, k) {
-				e.evaluate(&c, l, at, mi, ai, ki, inside)
-				if !yield(&c, k, inside) {
+			for _, v := range e.variants(l, a, m, k) {
+				e.evaluate(&c, l, at, mi, ai, ki, v)
+				if !yield(&c, layingOf(k, v)) {
 					return
 				}
 			}
@@ -926,7 +971,7 @@ func better(a, b *candidate) bool {
 	if a.ki != b.ki {
 		return a.ki < b.ki
 	}
-	return a.inside == nil && b.inside != nil
+	return a.at.Count() < b.at.Count() || (a.at.Count() == b.at.Count() && a.at < b.at)
 }
 
 // rejections explains why medium m lost.
@@ -1069,7 +1114,7 @@ func (e *Engine) refusedApps(l Link, win *candidate, ok, all []*candidate) []str
 		}
 		var pick *candidate
 		for _, c := range all {
-			if c.mi == win.mi && c.ai == ai && c.ki == win.ki && c.inside == win.inside {
+			if c.mi == win.mi && c.ai == ai && c.ki == win.ki && c.inside == win.inside && c.at == win.at {
 				pick = c
 			}
 		}
@@ -1087,7 +1132,7 @@ func (e *Engine) refusedApps(l Link, win *candidate, ok, all []*candidate) []str
 		// Its cost as Choose would price it, on a copy: cost sets the candidate's labour.
 		cp := *pick
 		channel := pick.f[fChannelM].num
-		_, cents := e.cost(&cp, channel, l.transitionInsideM(channel))
+		_, cents := e.cost(&cp, channel, l)
 		if cents >= win.costCents {
 			continue
 		}
@@ -1123,11 +1168,11 @@ func (e *Engine) feasibleAt(c *candidate, l Link, mi int, channelM float64, lay 
 			if lay.Construction != "" && k.ID != lay.Construction {
 				continue
 			}
-			for _, inside := range e.variants(l, a, m, k) {
-				if lay.Construction != "" && lay != layingOf(k, inside) {
+			for _, v := range e.variants(l, a, m, k) {
+				if lay.Construction != "" && lay != layingOf(k, v) {
 					continue
 				}
-				if e.evaluate(c, l, at, mi, ai, ki, inside); c.failed < 0 {
+				if e.evaluate(c, l, at, mi, ai, ki, v); c.failed < 0 {
 					return true
 				}
 			}
@@ -1137,26 +1182,37 @@ func (e *Engine) feasibleAt(c *candidate, l Link, mi int, channelM float64, lay 
 }
 
 // Laying is one way of laying a medium's cable on a link: a construction (a catalog id), and,
-// when Inside is not "", an entrance transition splicing it at both entrances to the listed
-// construction Inside, which runs inside the end buildings. The zero Laying names none: any
-// construction the rules allow.
+// when Inside is not "", an entrance transition splicing it at the entrances of At (one end
+// or both) to the listed construction Inside, which runs inside those buildings. The zero
+// Laying names none: any construction the rules allow.
 type Laying struct {
 	Construction, Inside string
+	At                   Ends // the ends of the transition; EndsNone when Inside is ""
 }
 
-// layingOf names construction k with its transition to inside (nil: none).
-func layingOf(k, inside *Construction) Laying {
-	if inside == nil {
+// layingOf names construction k laid as v.
+func layingOf(k *Construction, v variant) Laying {
+	if v.inside == nil {
 		return Laying{Construction: k.ID}
 	}
-	return Laying{Construction: k.ID, Inside: inside.ID}
+	return Laying{Construction: k.ID, Inside: v.inside.ID, At: v.at}
 }
 
-// String is the laying as links.csv writes a construction: "osp-loose-tube + ofnr-riser at
-// entrances" with a transition.
-func (l Laying) String() string {
-	if l.Inside == "" {
+// String is the laying in words: "osp-loose-tube + ofnr-riser at entrances" with a
+// transition at both ends, "… at the first end's entrance" or "… at the other end's
+// entrance" (end_a, end_b) at one.
+func (l Laying) String() string { return l.on(Link{}) }
+
+// on is the laying in words on link k, naming the end of a transition at one end by its
+// building (Link.EndA, EndB) when k names it: "… at CAF entrance".
+func (l Laying) on(k Link) string {
+	switch {
+	case l.Inside == "":
 		return l.Construction
+	case l.At == EndA:
+		return l.Construction + " + " + l.Inside + " at " + cmp.Or(k.EndA, "the first end's") + " entrance"
+	case l.At == EndB:
+		return l.Construction + " + " + l.Inside + " at " + cmp.Or(k.EndB, "the other end's") + " entrance"
 	}
 	return l.Construction + " + " + l.Inside + " at entrances"
 }
@@ -1174,9 +1230,9 @@ func shortLengths(l Link) lengths { return trialLengths(l, l.RiserM+l.SlackM+1) 
 // medium not in the catalog.
 func (e *Engine) LayingFor(medium string, rateGbps float64, l Link) (lay Laying, price LayingPrice, ok bool) {
 	var cost int64
-	e.eachLaying(medium, rateGbps, l, func(c *candidate, k, inside *Construction) bool {
+	e.eachLaying(medium, rateGbps, l, func(c *candidate, laid Laying) bool {
 		if c.failed < 0 && (!ok || c.costCents < cost) {
-			lay, price, cost, ok = layingOf(k, inside), e.layingPrice(c.m, k, inside, c.strands), c.costCents, true
+			lay, price, cost, ok = laid, e.layingPrice(c.m, c.k, c.inside, c.at, c.strands), c.costCents, true
 		}
 		return true
 	})
@@ -1399,10 +1455,10 @@ search:
 			if len(e.reachesOn(a, m)) == 0 || a.RateGbps != rateGbps {
 				continue
 			}
-			if e.evaluate(&c, l, at, mi, ai, k.ki, nil); c.failed < 0 {
+			if e.evaluate(&c, l, at, mi, ai, k.ki, variant{}); c.failed < 0 {
 				size, n := m.Constructions[k.ki].Fit(c.strands)
 				if perM, ok := e.prices.Price(PriceKey{Item: PriceCable, Medium: m.ID, Construction: m.Constructions[k.ki].ID, Count: size.Count}); ok {
-					best, lay = perM*int64(n), layingOf(m.Constructions[k.ki], nil)
+					best, lay = perM*int64(n), layingOf(m.Constructions[k.ki], variant{})
 				}
 				break search
 			}

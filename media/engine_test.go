@@ -6,6 +6,7 @@ import (
 	"math"
 	"path/filepath"
 	"reflect"
+	"slices"
 	"strings"
 	"sync"
 	"testing"
@@ -951,7 +952,7 @@ func TestLayingFor(t *testing.T) {
 	duct, buried := ends, ends
 	duct.PathwayTypes, buried.PathwayTypes = []string{"duct"}, []string{"buried"}
 	io := Laying{Construction: "indoor-outdoor"}
-	spliced := Laying{Construction: "osp-loose-tube", Inside: "ofnr-riser"}
+	spliced := Laying{Construction: "osp-loose-tube", Inside: "ofnr-riser", At: EndsBoth}
 	if lay, _, ok := e.LayingFor("os2", 10, duct); !ok || lay != io {
 		t.Errorf("in duct: laid as %v (%v), want %v", lay, ok, io)
 	}
@@ -1004,5 +1005,114 @@ func TestLossReasonNamesSplicedCable(t *testing.T) {
 	}
 	if want := "on osp-loose-tube spliced to ofnr-riser at both entrances loses"; !strings.Contains(ch.Reason, want) {
 		t.Errorf("reason lacks %q: %s", want, ch.Reason)
+	}
+}
+
+// TestTransitionPerEnd is tester 8's finding 11: unlisted outside-plant cable may run 15 m
+// inside a building from its point of entrance (NFPA 70 Article 770, 770.48, seen as
+// fragment; the rule entrance-15m), so a link that runs 14 m inside one building (ADM: a 6 m
+// riser, the 5 m coil and the 3 m loop) and 19.5 m inside the other (CAF) is spliced to listed
+// cable at CAF's entrance only. Against the transition at both entrances the engine used to
+// lay, it saves a splice (ANSI/TIA-568.3-D, 0.3 dB, from memory) and ADM's 14 m of riser cable
+// at 1.0 dB/km instead of outside plant's 0.5 (the catalog's ANSI/TIA-568.3-D maxima, from
+// memory) in the loss, and an enclosure (260.00), a 12-splice tray (38.00), 12 splices at 12
+// an hour (92.00) and 14 m of riser cable at 1.68 instead of 1.43 (the demo book, invented)
+// in the cost. A link over 15 m at both ends is spliced at both; one within 15 m at both at
+// neither. Routes on buried pathways, where only the outside-plant cable may be laid
+// (direct-burial).
+func TestTransitionPerEnd(t *testing.T) {
+	t.Parallel()
+	e := newEngine(t, nil, nil, EngineOptions{})
+	link := func(insideA, insideB float64) Link {
+		return Link{ID: "ADM-CAF", RouteM: 1000, RiserM: 17.5, SlackM: 16, RateGbps: 10, Outdoor: true, ConnectorPairs: 2, Strands: 12,
+			PathwayTypes: []string{"buried"}, InsideAM: insideA, InsideBM: insideB, EndA: "CAF", EndB: "ADM"}
+	}
+	l := link(19.5, 14)
+	ch := e.Choose(l)
+	if !ch.Feasible || ch.Construction != "osp-loose-tube" || ch.Inside != "ofnr-riser" || ch.InsideAt != EndA ||
+		ch.InsideAM != 19.5 || ch.InsideBM != 0 || ch.InsideM != 19.5 {
+		t.Fatalf("14 m at ADM, 19.5 m at CAF: %s spliced to %q at %v (%g + %g = %g m): %s", ch.Construction, ch.Inside, ch.InsideAt, ch.InsideAM, ch.InsideBM, ch.InsideM, ch.Reason)
+	}
+	if !strings.Contains(ch.Reason, "osp-loose-tube spliced to ofnr-riser at the entrance of CAF") {
+		t.Errorf("the reason does not name the end: %s", ch.Reason)
+	}
+	// The same candidate spliced at both entrances, as before.
+	m := e.cat.Medium("os2")
+	mi, ki := slices.Index(e.cat.Media, m), slices.IndexFunc(m.Constructions, func(k *Construction) bool { return k.ID == "osp-loose-tube" })
+	ai := slices.IndexFunc(e.cat.Applications, func(a *Application) bool { return a.Name == ch.Application })
+	var one, both candidate
+	in := m.Construction("ofnr-riser")
+	e.evaluate(&one, l, linkLengths(l), mi, ai, ki, variant{inside: in, at: EndA})
+	e.evaluate(&both, l, linkLengths(l), mi, ai, ki, variant{inside: in, at: EndsBoth})
+	if one.failed >= 0 || both.failed >= 0 || one.costCents != ch.CostCents {
+		t.Fatalf("candidates: one end failed rule %d, both %d; one end %d cents, chosen %d", one.failed, both.failed, one.costCents, ch.CostCents)
+	}
+	for i, x := range one.losses {
+		y := both.losses[i]
+		if d := y.LossDB - x.LossDB; y.Splices != x.Splices+1 || math.Abs(d-(0.3+14*0.5/1000)) > 1e-9 {
+			t.Errorf("%d nm: both entrances lose %.4f dB more with %d splices more, want 0.307 and 1", x.WavelengthNM, d, y.Splices-x.Splices)
+		}
+	}
+	if d := both.costCents - one.costCents; d < 26000+3800+9200+350-1 || d > 26000+3800+9200+350+1 {
+		t.Errorf("both entrances cost %d cents more, want 39350 (an enclosure, a tray, 12 splices, 14 m of riser cable)", d)
+	}
+	for _, c := range []struct {
+		name             string
+		insideA, insideB float64
+		inside           string
+		at               Ends
+	}{
+		{"over 15 m at both ends", 20, 19.5, "ofnr-riser", EndsBoth},
+		{"within 15 m at both ends", 14, 15, "", EndsNone},
+		{"over 15 m at the other end only", 14, 19.5, "ofnr-riser", EndB},
+	} {
+		ch := e.Choose(link(c.insideA, c.insideB))
+		if !ch.Feasible || ch.Construction != "osp-loose-tube" || ch.Inside != c.inside || ch.InsideAt != c.at {
+			t.Errorf("%s: %s spliced to %q at %v, want %q at %v: %s", c.name, ch.Construction, ch.Inside, ch.InsideAt, c.inside, c.at, ch.Reason)
+		}
+	}
+	// Routing prices and reaches a route over buried spans as the same laying: spliced at CAF
+	// alone, one splice fewer than at both, so it reaches further.
+	lay, price, ok := e.LayingFor("os2", 10, l)
+	if want := (Laying{Construction: "osp-loose-tube", Inside: "ofnr-riser", At: EndA}); !ok || lay != want || lay.on(l) != "osp-loose-tube + ofnr-riser at CAF entrance" ||
+		price.HardwareCents != 26000+3800 {
+		t.Errorf("LayingFor: %v (%q, %v), hardware %d cents, want %v at CAF's entrance, 29800", lay, lay.on(l), ok, price.HardwareCents, want)
+	}
+	bothLay := Laying{Construction: "osp-loose-tube", Inside: "ofnr-riser", At: EndsBoth}
+	if r1, r2 := e.MaxChannelMAs("os2", lay, 10, 0, l), e.MaxChannelMAs("os2", bothLay, 10, 0, l); !(r1 > r2 && r2 > 0) {
+		t.Errorf("reach spliced at CAF %.1f m, at both %.1f m; want the one end's longer", r1, r2)
+	}
+	// Without the enclosure's price, no transition: the rule names the longer end.
+	book, err := ParsePriceBook("no-transition.yaml", []byte(strings.Replace(string(pricesYAML), "transition_splice_each: 260.00", "", 1)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	plain, err := NewEngine(nil, nil, book, EngineOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	ch = plain.Choose(l)
+	if want := "it would run 19.5 m inside one (19.5 m inside CAF and 14 m inside ADM"; ch.Feasible || !strings.Contains(ch.Reason, want) {
+		t.Errorf("no enclosure price: feasible %v, reason %q, want %q", ch.Feasible, ch.Reason, want)
+	}
+}
+
+// TestTransitionFactBothEnds: the fact transition keeps its meaning, spliced at both
+// entrances, so that a rules file written before transitions could be at one end (such as
+// this one, the shipped entrance-15m rule as it was) refuses a transition at one end where
+// the other end runs over 15 m (NFPA 70 770.48, seen as fragment) instead of letting it pass.
+func TestTransitionFactBothEnds(t *testing.T) {
+	t.Parallel()
+	old, err := ParseRules("old-rules.yaml", []byte(strings.Replace(string(rulesYAML),
+		"when: outdoor and not construction_listed and unspliced_inside_max_m > 15",
+		"when: outdoor and not construction_listed and not transition and inside_max_m > 15", 1)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	e := newEngine(t, nil, old, EngineOptions{})
+	ch := e.Choose(Link{ID: "ADM-CAF", RouteM: 1000, RiserM: 17.5, SlackM: 16, RateGbps: 10, Outdoor: true, ConnectorPairs: 2, Strands: 12,
+		PathwayTypes: []string{"buried"}, InsideAM: 19.5, InsideBM: 14, EndA: "CAF", EndB: "ADM"})
+	if !ch.Feasible || ch.Inside != "ofnr-riser" || ch.InsideAt != EndsBoth {
+		t.Errorf("with the rule as it was: %s spliced to %q at %v, want both entrances: %s", ch.Construction, ch.Inside, ch.InsideAt, ch.Reason)
 	}
 }

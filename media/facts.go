@@ -31,6 +31,8 @@ const (
 	fConnectorPairs
 	fSplices
 	fTransition
+	fTransitionA
+	fTransitionB
 	fStrands
 	fKind
 	fMedium
@@ -55,6 +57,7 @@ const (
 	fInsideAM
 	fInsideBM
 	fInsideMaxM
+	fUnsplicedInsideMaxM
 	fEndA
 	fEndB
 	fCordsM
@@ -97,7 +100,9 @@ var facts = [nFacts]Fact{
 	fPlenum:                   boolFact("plenum", "part of the route runs in a plenum (an air-handling space)"),
 	fConnectorPairs:           numFact("connector_pairs", "mated connector pairs in the channel"),
 	fSplices:                  numFact("splices", "splices in the channel, entrance transitions included"),
-	fTransition:               boolFact("transition", "the outside-plant cable is spliced at both entrances to listed inside cable, which runs inside the end buildings"),
+	fTransition:               boolFact("transition", "the outside-plant cable is spliced at both entrances to listed inside cable, which runs inside the end buildings; false with a transition at one end only (transition_a, transition_b), so that a rule written when transitions were at both ends or none stays as strict"),
+	fTransitionA:              boolFact("transition_a", "the cable is spliced to listed inside cable at the entrance of end_a, which the inside cable then runs inside"),
+	fTransitionB:              boolFact("transition_b", "the cable is spliced to listed inside cable at the entrance of end_b, which the inside cable then runs inside"),
 	fStrands:                  numFact("strands", "strands the link needs (4-pair cables for copper)"),
 	fKind:                     strFact("kind", "the medium's kind", KindCopper, KindMultimode, KindSinglemode),
 	fMedium:                   strFact("medium", "the medium's catalog id, e.g. om4"),
@@ -122,6 +127,7 @@ var facts = [nFacts]Fact{
 	fInsideAM:                 numFact("inside_a_m", "cable inside the building at the link's first end (riser, coil, loops, in-building pathways), in metres"),
 	fInsideBM:                 numFact("inside_b_m", "cable inside the building at the link's other end, in metres"),
 	fInsideMaxM:               numFact("inside_max_m", "the larger of inside_a_m and inside_b_m, in metres"),
+	fUnsplicedInsideMaxM:      numFact("unspliced_inside_max_m", "the construction's own cable inside a building: the larger of inside_a_m and inside_b_m at the ends with no entrance transition (transition_a, transition_b), in metres; 0 with one at both ends"),
 	fEndA:                     strFact("end_a", "the building at inside_a_m's end, by id, for reasons; \"the building at one end\" when not known"),
 	fEndB:                     strFact("end_b", "the building at inside_b_m's end, by id, for reasons; \"the building at the other end\" when not known"),
 	fCordsM:                   numFact("cords_m", "patch and equipment cords of a copper channel, both ends together, in metres"),
@@ -131,7 +137,7 @@ var facts = [nFacts]Fact{
 	fAttenuatorDB:             numFact("attenuator_db", "the fixed attenuator at each receiver that brings the loss up to min_loss_db, in dB; 0 when none is needed"),
 	fOverloadDB:               numFact("overload_db", "how far the channel, attenuator included, stays below min_loss_db, in dB; 0 when the receiver is safe"),
 	fRepairSplices:            numFact("repair_splices", "repair splices allowed for in loss_margin_db: single-mode outside plant, per km (catalog margins)"),
-	fCable:                    strFact("cable", "the cable laid, for reasons: construction, with the number of cables in front when the strands need more than one (\"9 × outdoor (one 4-pair cable per port pair)\"), or with a transition e.g. \"osp-loose-tube spliced to ofnr-riser at both entrances\""),
+	fCable:                    strFact("cable", "the cable laid, for reasons: construction, with the number of cables in front when the strands need more than one (\"9 × outdoor (one 4-pair cable per port pair)\"), or with a transition e.g. \"osp-loose-tube spliced to ofnr-riser at both entrances\" or \"… at the entrance of CAF\""),
 	fEMISpans:                 strFact("emi_spans", "the route's spans at its highest EMI level (max_emi), for reasons: \"span D-EW02b\" or \"spans A/1, A/2\"; \"one of its spans\" when not known"),
 	fLossMarginBasis:          strFact("loss_margin_basis", "what loss_margin_db is made of, for reasons: e.g. \"0.5 dB + 3 repair splices of 0.3 dB\", \"the catalog's multimode margin\" or \"the plan's loss_margin_db\"; \"\" for copper"),
 }

@@ -48,14 +48,53 @@ type Link struct {
 	CrossedInsideM float64
 }
 
-// transitionInsideM is the metres of an entrance transition's inside cable at both ends
-// together on a channel of channelM metres: all of the leg's cable inside the end buildings
-// (insideM: risers, service coils, entrance loops and the in-building trays and tunnels up to
-// the point of entrance), at most the channel. It is the one length the loss budget blends,
-// the cost prices and the takeoff buys (Choice.InsideM).
-func (l Link) transitionInsideM(channelM float64) float64 {
-	a, b := l.insideM()
-	return min(a+b, channelM)
+// Ends names the ends of a link where its outside-plant cable is spliced to listed inside
+// cable at the entrance (an entrance transition): none, the first end (EndA, the building of
+// Link.InsideAM), the other (EndB, of Link.InsideBM) or both. Which ends a candidate splices
+// at is the rules' to judge (the facts transition_a and transition_b); the engine tries each.
+type Ends uint8
+
+// The ends of an entrance transition.
+const (
+	EndsNone Ends = 0
+	EndA     Ends = 1
+	EndB     Ends = 2
+	EndsBoth      = EndA | EndB
+)
+
+// Has reports whether x includes end.
+func (x Ends) Has(end Ends) bool { return x&end != 0 }
+
+// Count is the number of ends in x: the transitions, each an enclosure per outside cable and
+// a splice per strand.
+func (x Ends) Count() int {
+	n := 0
+	for _, e := range []Ends{EndA, EndB} {
+		if x.Has(e) {
+			n++
+		}
+	}
+	return n
+}
+
+// transitionInsideM is the metres of an entrance transition's inside cable at each end of at
+// (0 at an end not in at) on a channel of channelM metres: all of the leg's cable inside that
+// end's building (insideM: riser, service coil, entrance loop and the in-building trays and
+// tunnels up to the point of entrance), both ends scaled down together when they would take
+// more than the channel. Their sum is the one length the loss budget blends, the cost prices
+// and the takeoff buys (Choice.InsideM).
+func (l Link) transitionInsideM(channelM float64, at Ends) (a, b float64) {
+	a, b = l.insideM()
+	if !at.Has(EndA) {
+		a = 0
+	}
+	if !at.Has(EndB) {
+		b = 0
+	}
+	if sum := a + b; sum > channelM && sum > 0 {
+		a, b = a*channelM/sum, b*channelM/sum
+	}
+	return a, b
 }
 
 // insideM is the metres of cable inside the building at each end: InsideAM and InsideBM, or
@@ -135,13 +174,15 @@ type Choice struct {
 	CostCents    int64  // installed cost of the medium: cable, terminations, transceivers
 	CableCents   int64  // the cable part of CostCents (entrance transition enclosures and trays included); the rest is labour, terminations and transceivers
 	LabourCents  int64  // splicing the entrance transitions, part of CostCents; 0 without
-	Inside       string // with an entrance transition: the listed construction Construction is spliced to at both entrances, which runs inside the end buildings; "" without
-	// InsideM is, with an entrance transition, the metres of Inside cable at both ends
-	// together, before waste: the cable inside the end buildings (Link.InsideAM and InsideBM:
-	// risers, service coils, entrance loops, in-building trays); 0 without.
-	InsideM     float64
-	Strands     int    // strands terminated at each end (4-pair cables for copper)
-	Termination string // how fibre strand ends are terminated (a Termination* constant); "" for copper
+	Inside       string // with an entrance transition: the listed construction Construction is spliced to at the entrances of InsideAt, which runs inside those buildings; "" without
+	InsideAt     Ends   // the ends with an entrance transition: EndsNone without, else one end or both
+	// InsideAM and InsideBM are, with an entrance transition, the metres of Inside cable at
+	// each end before waste: the cable inside that end's building (Link.InsideAM and InsideBM:
+	// riser, service coil, entrance loop, in-building trays) where InsideAt has the end, 0
+	// elsewhere; InsideM is their sum; all 0 without.
+	InsideAM, InsideBM, InsideM float64
+	Strands                     int    // strands terminated at each end (4-pair cables for copper)
+	Termination                 string // how fibre strand ends are terminated (a Termination* constant); "" for copper
 	// Attenuators is the number of fixed attenuators of AttenuatorDB dB each (one at every
 	// receiver) the PHY needs on this short a channel, priced at AttenuatorCents in CostCents;
 	// see AttenuatorQuantity.

@@ -184,7 +184,7 @@ func TestEntrancePerEnd(t *testing.T) {
 	m := slices.IndexFunc(e.cat.Media, func(m *Medium) bool { return m.ID == "os2" })
 	k := slices.IndexFunc(e.cat.Media[m].Constructions, func(k *Construction) bool { return k.ID == "osp-loose-tube" })
 	a := slices.Index(e.cat.Applications, e.cat.Application("10GBASE-LR"))
-	e.evaluate(&c2, l, at, m, a, k, nil)
+	e.evaluate(&c2, l, at, m, a, k, variant{})
 	if c2.failed < 0 || e.rules.Rules[c2.failed].ID != "entrance-15m" {
 		t.Fatalf("25 m inside: not rejected by entrance-15m")
 	}
@@ -335,7 +335,7 @@ func TestChannelInvariants(t *testing.T) {
 					if len(e.reachesOn(a, e.cat.Media[mi])) == 0 {
 						return false
 					}
-					if e.evaluate(&c, l, at, mi, ai, ki, nil); c.failed < 0 {
+					if e.evaluate(&c, l, at, mi, ai, ki, variant{}); c.failed < 0 {
 						return true
 					}
 				}

@@ -1453,13 +1453,14 @@ func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg) []
 	fibre := m != nil && m.Fibre()
 	qs = append(qs, items.Cable(l.Medium, l.Construction, t.Size.Count, fibre, t.OutsideLengthM()*n))
 	if l.Inside != "" {
-		// The entrance transitions: inside cable up the risers, and at each entrance an
-		// enclosure per cable with trays for every strand, all spliced through.
+		// The entrance transitions, at the ends the engine chose (Leg.InsideAt): inside cable
+		// up those risers, and at each such entrance an enclosure per cable with trays for
+		// every strand, all spliced through.
 		qs = append(qs, items.Cable(l.Medium, l.Inside, t.InsideSize.Count, true, t.InsideLengthM*float64(t.InsideCables)))
-		spliced := t.Size.Count * t.Cables
-		add(media.CategoryMaterial, "entrance transition enclosure", media.UnitEach, 2*n, media.PriceKey{Item: media.PriceTransition})
-		add(media.CategoryMaterial, fmt.Sprintf("splice tray, %d splices", p.TraySplices()), media.UnitEach, float64(2*p.TraysFor(spliced)), media.PriceKey{Item: media.PriceSpliceTray})
-		work("splice fibre, entrance transitions", media.UnitEach, float64(2*spliced), media.PriceKey{Item: media.RateSplice})
+		spliced, at := t.Size.Count*t.Cables, t.InsideEnds
+		add(media.CategoryMaterial, "entrance transition enclosure", media.UnitEach, float64(t.TransitionEnclosures()), media.PriceKey{Item: media.PriceTransition})
+		add(media.CategoryMaterial, fmt.Sprintf("splice tray, %d splices", p.TraySplices()), media.UnitEach, float64(at*p.TraysFor(spliced)), media.PriceKey{Item: media.PriceSpliceTray})
+		work("splice fibre, entrance transitions", media.UnitEach, float64(at*spliced), media.PriceKey{Item: media.RateSplice})
 	}
 	ends := float64(2 * t.Terminated)
 	if fibre {
@@ -1517,7 +1518,7 @@ func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg) []
 	// and per enclosure whatever the strand count (ANSI/TIA-758-B gives the splice closures'
 	// placement, not their labour, from memory).
 	qs = append(qs, items.Crew(p, media.CrewCableEndPrep, float64(t.CableEnds()))...)
-	qs = append(qs, items.Crew(p, media.CrewEnclosureInstall, float64(t.Enclosures(l.Inside != "")))...)
+	qs = append(qs, items.Crew(p, media.CrewEnclosureInstall, float64(t.Enclosures()))...)
 	return qs
 }
 

@@ -19,12 +19,14 @@ import (
 // bought" but with an entrance transition), the reels it takes, its slack loops' metres and
 // the structures passed (the takeoff's), the jacket colour (JacketText) and the cables' labels
 // (CableLabels); then, with an entrance transition (Leg.Inside), the inside cables and the
-// piece each is cut to at the served building (to) and at the cross-connect (from), and their
+// piece each is cut to at the served building (to) and at the cross-connect (from), each
+// where the transition has that end (Leg.InsideAt; blank at an end without), and their
 // labels (InsideLabels). A cable's pieces add up to the cable bought: cut length + inside cut
 // to + inside cut from, and over the legs to the bill's cable lines in either units
 // (cableCut). An infeasible leg's schedule is blank, as many cells as a feasible one's.
 type schedule struct {
 	feasible, inside          bool
+	insideTo, insideFrom      bool // the transition's ends: the served building's, the cross-connect's
 	cables, reels, structures int
 	cutM, slackM              float64
 	jacket                    string
@@ -41,7 +43,7 @@ func scheduleOf(r *route.Result, i int) schedule {
 		return schedule{}
 	}
 	t := l.Cable
-	return schedule{feasible: true, inside: l.Inside != "", cables: t.Cables, reels: t.Reels, structures: t.Structures,
+	return schedule{feasible: true, inside: l.Inside != "", insideTo: l.InsideAt.Has(media.EndA), insideFrom: l.InsideAt.Has(media.EndB), cables: t.Cables, reels: t.Reels, structures: t.Structures,
 		cutM: t.OutsideLengthM(), slackM: t.SlackM(), jacket: JacketText(r, l), labels: CableLabels(r, i),
 		insideCables: t.InsideCables, insideToM: t.InsideToM, insideFromM: t.InsideFromM, insideLabels: InsideLabels(r, i)}
 }
@@ -59,13 +61,19 @@ func scheduleHead(opt WriteOptions) []string {
 }
 
 // text is s as links.csv's last columns (scheduleHead), lengths in the units of opt, labels
-// separated by spaces; the inside cells empty without a transition, all empty for an
-// infeasible leg.
+// separated by spaces; the inside cells empty without a transition, an end's cut empty
+// where the transition has not that end, all empty for an infeasible leg.
 func (s schedule) text(opt WriteOptions) []string {
 	_, length := opt.lengthCol("")
 	inside := []string{"", "", "", ""}
 	if s.inside {
-		inside = []string{strconv.Itoa(s.insideCables), length(s.insideToM), length(s.insideFromM), strings.Join(s.insideLabels, " ")}
+		inside = []string{strconv.Itoa(s.insideCables), "", "", strings.Join(s.insideLabels, " ")}
+		if s.insideTo {
+			inside[1] = length(s.insideToM)
+		}
+		if s.insideFrom {
+			inside[2] = length(s.insideFromM)
+		}
 	}
 	out := append([]string{strconv.Itoa(s.cables), length(s.cutM), strconv.Itoa(s.reels), length(s.slackM),
 		strconv.Itoa(s.structures), s.jacket, strings.Join(s.labels, " ")}, inside...)
@@ -83,8 +91,13 @@ func (s schedule) text(opt WriteOptions) []string {
 func (s schedule) sheetCells(u Units) []workbook.Cell {
 	inside := []workbook.Cell{workbook.Blank(), workbook.Blank(), workbook.Blank(), workbook.Blank()}
 	if s.inside {
-		inside = []workbook.Cell{workbook.Int(int64(s.insideCables)), workbook.Number(u.Rounded(s.insideToM, 1), 1),
-			workbook.Number(u.Rounded(s.insideFromM, 1), 1), workbook.Text(strings.Join(s.insideLabels, " "))}
+		inside = []workbook.Cell{workbook.Int(int64(s.insideCables)), workbook.Blank(), workbook.Blank(), workbook.Text(strings.Join(s.insideLabels, " "))}
+		if s.insideTo {
+			inside[1] = workbook.Number(u.Rounded(s.insideToM, 1), 1)
+		}
+		if s.insideFrom {
+			inside[2] = workbook.Number(u.Rounded(s.insideFromM, 1), 1)
+		}
 	}
 	out := append([]workbook.Cell{workbook.Text(s.jacket), workbook.Text(strings.Join(s.labels, " ")), workbook.Number(u.Rounded(s.cutM, 1), 1)}, inside...)
 	if !s.feasible {
@@ -175,11 +188,12 @@ func JacketColours(r *route.Result, l *routing.Leg) (outside, inside string) {
 
 // JacketText is the jacket colours of a leg's cable (JacketColours) as links.csv and the links
 // sheet write them, with an entrance transition the inside construction's too, as
-// ConstructionText names them: "black + yellow at entrances". "" where the catalog gives none.
+// ConstructionText names them: "black + yellow at entrances", "black + yellow at CAF
+// entrance" (Leg.TransitionText). "" where the catalog gives none.
 func JacketText(r *route.Result, l *routing.Leg) string {
 	out, inside := JacketColours(r, l)
 	if inside != "" {
-		out += " + " + inside + " at entrances"
+		out += " + " + inside + " " + l.TransitionText()
 	}
 	return out
 }
@@ -234,7 +248,7 @@ func cableLabel(l *routing.Leg, n int) string {
 
 // InsideLabels are the labels of the inside pieces of leg i of r with an entrance transition
 // (Leg.Inside), nil without: each inside cable's piece at the served building, then each one's
-// at the cross-connect, labelled as the cable it is spliced to (CableLabels, numbered alike
+// at the cross-connect, each where the transition has that end (Leg.TransitionAt), labelled as the cable it is spliced to (CableLabels, numbered alike
 // from the leg's first cable, inside cables where their count differs) and ":" with the
 // building it is in, "ADM/LIB-1:LIB" and "ADM/LIB-1:ADM", so that the three pieces of one
 // channel read as one cable. Common practice, no published source: ANSI/TIA-606 labels a
@@ -245,8 +259,9 @@ func InsideLabels(r *route.Result, i int) []string {
 		return nil
 	}
 	first := firstCable(r, i)
-	out := make([]string, 0, 2*l.Cable.InsideCables)
-	for _, b := range []string{l.Link.To, l.Link.From} {
+	at := l.TransitionAt()
+	out := make([]string, 0, len(at)*l.Cable.InsideCables)
+	for _, b := range at {
 		for j := 0; j < l.Cable.InsideCables; j++ {
 			out = append(out, cableLabel(l, first+j)+":"+b)
 		}

@@ -84,7 +84,7 @@ func TestScheduleColumns(t *testing.T) {
 			if got, want := f(row[cut])+f(row[inTo])+f(row[inFrom]), f(sheet[i+1][bought]); math.Abs(got-want) > 0.11 {
 				t.Errorf("%s (%s): pieces %s + %s + %s, cable bought %s", l.Label(), u, row[cut], row[inTo], row[inFrom], sheet[i+1][bought])
 			}
-			if (l.Inside != "") != (row[inCables] != "") || (l.Inside != "" && len(strings.Fields(row[inLabels])) != 2*l.Cable.InsideCables) {
+			if (l.Inside != "") != (row[inCables] != "") || (l.Inside != "" && len(strings.Fields(row[inLabels])) != len(l.TransitionAt())*l.Cable.InsideCables) {
 				t.Errorf("%s: inside %q, inside cables %q, labels %q", l.Label(), l.Inside, row[inCables], row[inLabels])
 			}
 			// TIA-598-D premises cable jacket colours: yellow single-mode, aqua OM3 and OM4,
@@ -272,7 +272,7 @@ func TestJacketColours(t *testing.T) {
 	if out, in := JacketColours(r, &l); l.Medium != "os2" || out != "black" || in != "yellow" {
 		t.Errorf("%s (%s %s + %s): jackets %q and %q, want black and yellow", l.Label(), l.Medium, l.Construction, l.Inside, out, in)
 	}
-	if got := JacketText(r, &l); got != "black + yellow at entrances" {
+	if got, want := JacketText(r, &l), "black + yellow "+l.TransitionText(); got != want || !strings.HasPrefix(l.TransitionText(), "at ") {
 		t.Errorf("%s: jacket text %q", l.Label(), got)
 	}
 	unknown := l

@@ -762,7 +762,8 @@ func legRows(r *route.Result, opt Options, med map[string]mediumInfo, names map[
 
 // jacketOf is the jacket of the cable leg l installs, as the links table names it: "jacket
 // black" (its construction's colour, output.JacketColours, by colourOf's name), and ", yellow
-// at entrances" for a listed cable spliced on at both entrances in another colour; "" when the
+// at entrances" for a listed cable spliced on at both entrances in another colour (", yellow
+// at CAF entrance" at one: routing.Leg.TransitionText); "" when the
 // catalog gives no colour for its construction (copper: no TIA-598 colour, which the medium's
 // label says) or has no such medium or construction.
 func jacketOf(r *route.Result, l *routing.Leg) string {
@@ -773,7 +774,7 @@ func jacketOf(r *route.Result, l *routing.Leg) string {
 	_, out := colourOf(outside)
 	if inside != "" && inside != outside {
 		_, in := colourOf(inside)
-		out += ", " + in + " at entrances"
+		out += ", " + in + " " + l.TransitionText()
 	}
 	return "jacket " + out
 }

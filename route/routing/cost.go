@@ -566,12 +566,17 @@ type demandInfo struct {
 // first option (priced as the cheapest cable its ends allow, media.Engine.CableLayingFor), the
 // medium and the laying for an option that may use spans the first may not (a buried span,
 // laid as outside-plant cable spliced at the entrances): "os2 as osp-loose-tube + ofnr-riser
-// at entrances".
-func optionName(medium string, lay media.Laying, first bool) string {
+// at entrances", or at one end "… at CAF entrance", as the leg's construction reads
+// (Leg.ConstructionText) with its link's ends, a the served building (media.EndA) and b the
+// cross-connect's.
+func optionName(medium string, lay media.Laying, first bool, a, b string) string {
 	if first {
 		return medium
 	}
-	return medium + " as " + lay.String()
+	if lay.Inside == "" {
+		return medium + " as " + lay.Construction
+	}
+	return medium + " as " + lay.Construction + " + " + lay.Inside + " " + transitionText(lay.At, a, b)
 }
 
 // optionMedium is the medium of an option named by optionName (catalog ids hold no space).
@@ -742,7 +747,7 @@ func (m *Model) addOption(s *site.Site, dm *optimize.Demand, info *demandInfo, m
 	d := m.design
 	facts, rate, future := info.facts, info.rate, info.facts.FutureRateGbps
 	lay, perM := l.laying, l.price.PerMCents
-	name := optionName(med, lay, first)
+	name := optionName(med, lay, first, facts.EndA, facts.EndB)
 	mm := m.eng.Catalog().Medium(med)
 	var maxCh float64
 	var transition int64 // what a transition adds whatever the route
@@ -763,16 +768,24 @@ func (m *Model) addOption(s *site.Site, dm *optimize.Demand, info *demandInfo, m
 		maxCh = m.reachM(s, med, lay, rate, future, facts, true)
 		if lay.Inside != "" {
 			price := l.price
-			// The inside cable in the end buildings instead of the outside-plant cable there,
-			// the enclosures and trays at both entrances and the splicing (media.Engine's cost).
-			insideM := items.Wasted(d, facts.InsideAM+facts.InsideBM)
+			// The inside cable in the buildings of the transition's ends instead of the
+			// outside-plant cable there, the enclosures and trays at those entrances and the
+			// splicing (media.Engine's cost).
+			insideM := 0.0
+			if lay.At.Has(media.EndA) {
+				insideM += facts.InsideAM
+			}
+			if lay.At.Has(media.EndB) {
+				insideM += facts.InsideBM
+			}
+			insideM = items.Wasted(d, insideM)
 			transition = media.MulCents(price.InsidePerMCents, insideM) - media.MulCents(price.PerMCents, insideM) +
 				price.HardwareCents + price.LabourCents
-			// Each inside cable's two ends, one at the entrance and one in the telecom room, at
-			// both buildings: prepared by the crew, with the bid items per cable end, as the
-			// bill counts them (CableTakeoff.CableEnds).
-			ends := float64(4 * price.InsideCables)
-			transition += m.cents(items.Crew(m.prices, media.CrewCableEndPrep, ends)...) + m.cents(m.bidItems(media.BidBases{CableEnds: 4 * price.InsideCables})...)
+			// Each inside cable's two ends, one at the entrance and one in the telecom room, in
+			// each building of the transition: prepared by the crew, with the bid items per
+			// cable end, as the bill counts them (CableTakeoff.CableEnds).
+			ends := 2 * price.InsideCables * lay.At.Count()
+			transition += m.cents(items.Crew(m.prices, media.CrewCableEndPrep, float64(ends))...) + m.cents(m.bidItems(media.BidBases{CableEnds: ends})...)
 		}
 	}
 	// The route may take what the channel leaves of the reach: the channel also holds the

@@ -69,7 +69,10 @@ type Leg struct {
 	Medium       string // catalog medium id, e.g. "os2"; "" when infeasible
 	Application  string // IEEE 802.3 PHY, e.g. "10GBASE-LR"
 	Construction string // cable construction id
-	Inside       string // with an entrance transition: the listed construction spliced on at both entrances; "" without
+	Inside       string // with an entrance transition: the listed construction spliced on at the entrances of InsideAt; "" without
+	// InsideAt is, with an entrance transition, its ends: media.EndA the served building
+	// (Link.To), media.EndB the cross-connect's (Link.From), or both (TransitionAt names them).
+	InsideAt media.Ends
 	// StrandsCable is the strands of the cable installed, after growth and rounding to a
 	// cable size; on a feasible copper leg its pairs instead, PairsPerCable per 4-pair cable
 	// (an infeasible leg keeps the strands asked, rounded as fibre).
@@ -310,7 +313,7 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 		return
 	}
 	leg.Feasible = true
-	leg.Cable.Fit(cm.eng.Catalog(), ch, facts.InsideAM, facts.InsideBM, cm.design.WastePct)
+	leg.Cable.Fit(cm.eng.Catalog(), ch, cm.design.WastePct)
 	if m := cm.eng.Catalog().Medium(ch.Medium); m != nil && !m.Fibre() {
 		// Copper counts pairs, four to each 4-pair cable, not the fibre cable size the
 		// plan's strands would round up to (ANSI/TIA-568.2: a 4-pair cable serves one port).
@@ -325,7 +328,7 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 		if leg.Cable.cutOutside(cm.design) {
 			facts = withCable(facts, leg.Cable)
 			again := cm.eng.Choose(facts)
-			if again.Feasible && again.Medium == ch.Medium && again.Construction == ch.Construction && again.Inside == ch.Inside {
+			if again.Feasible && again.Medium == ch.Medium && again.Construction == ch.Construction && again.Inside == ch.Inside && again.InsideAt == ch.InsideAt {
 				ch = again
 				leg.Rejected, leg.Choice, leg.ReasonCode = ch.Rejected, ch.Reason, ch.Code
 			} else {
@@ -333,7 +336,7 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 			}
 		}
 	}
-	leg.Medium, leg.Application, leg.Construction, leg.Inside = ch.Medium, ch.Application, ch.Construction, ch.Inside
+	leg.Medium, leg.Application, leg.Construction, leg.Inside, leg.InsideAt = ch.Medium, ch.Application, ch.Construction, ch.Inside, ch.InsideAt
 	leg.Losses = ch.Losses
 	if q, ok := ch.AttenuatorQuantity(); ok {
 		leg.Attenuators = []media.Quantity{q}

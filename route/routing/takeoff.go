@@ -54,13 +54,15 @@ type CableTakeoff struct {
 	Terminated int
 
 	// With an entrance transition (Leg.Inside): the part of LengthM bought as the inside
-	// construction, which runs inside the end buildings (InsideRunM, with waste),
-	// in InsideCables cables of InsideSize; the rest of LengthM is the outside-plant cable.
-	// Each inside cable is two pieces, one at each end, cut to InsideToM at the served
-	// building (Link.To) and InsideFromM at the cross-connect (Link.From); InsideLengthM is
+	// construction, which runs inside the buildings of the transition's ends (InsideRunM,
+	// with waste), in InsideCables cables of InsideSize; the rest of LengthM is the
+	// outside-plant cable. Each inside cable is a piece at each end of the transition
+	// (InsideEnds of them, Leg.InsideAt), cut to InsideToM at the served building (Link.To)
+	// and InsideFromM at the cross-connect (Link.From), 0 at an end without; InsideLengthM is
 	// their sum.
 	InsideLengthM          float64
 	InsideToM, InsideFromM float64
+	InsideEnds             int
 	// InsideRunM is the inside cable's run before waste: the cable inside the end buildings
 	// the media engine spliced on (media.Choice.InsideM); 0 without a transition.
 	InsideRunM   float64
@@ -81,24 +83,24 @@ func (t CableTakeoff) OutsideLengthM() float64 { return t.LengthM - t.InsideLeng
 
 // CableEnds is the cable ends the leg's cables have, each prepared and labelled once: both
 // ends of each outside cable, cut again at every mid-span splice (two ends more a join), and
-// with an entrance transition both ends of each inside cable at each end's building (the
-// transition enclosure splices the outside cable's end to one of them). Set once the medium
-// is chosen (Fit).
+// with an entrance transition both ends of each inside cable in each building of the
+// transition (the transition enclosure splices the outside cable's end to one of them). Set
+// once the medium is chosen (Fit).
 func (t CableTakeoff) CableEnds() int {
-	return 2*t.Cables*(1+t.Joins) + 4*t.InsideCables
+	return 2*t.Cables*(1+t.Joins) + 2*t.InsideCables*t.InsideEnds
 }
 
 // Enclosures is the enclosures the leg's cables put in the field, each installed once: a
-// transition enclosure per outside cable at each entrance, and a splice closure per outside
-// cable at each mid-span join. The buildings' fibre enclosures and panels are counted by
-// building (estimate.Connectivity).
-func (t CableTakeoff) Enclosures(transition bool) int {
-	n := t.Cables * t.Joins
-	if transition {
-		n += 2 * t.Cables
-	}
-	return n
+// transition enclosure per outside cable at each entrance of the transition (InsideEnds),
+// and a splice closure per outside cable at each mid-span join. The buildings' fibre
+// enclosures and panels are counted by building (estimate.Connectivity).
+func (t CableTakeoff) Enclosures() int {
+	return t.Cables*t.Joins + t.TransitionEnclosures()
 }
+
+// TransitionEnclosures is the entrance transition enclosures of the leg: one per outside
+// cable at each entrance of the transition; 0 without one.
+func (t CableTakeoff) TransitionEnclosures() int { return t.Cables * t.InsideEnds }
 
 // SlackM is every slack loop of the leg and the splicing slack at its joins, in metres.
 func (t CableTakeoff) SlackM() float64 {
@@ -500,26 +502,19 @@ func joinsUpToM(d plan.Design, joins int) float64 {
 }
 
 // Fit fills the takeoff's cable size from the rule engine's choice; with an entrance
-// transition, also the inside cable, which takes what the engine laid inside the end
-// buildings (media.Choice.InsideM: risers, service coils, entrance loops, in-building trays):
-// at each end a piece of that end's share (insideToM at the served building, Link.To;
-// insideFromM at the cross-connect, Link.From: media.Link.InsideAM and InsideBM), with the
-// design's waste, cut to a whole metre, as a crew cuts each piece from its reel.
-func (t *CableTakeoff) Fit(cat *media.Catalog, ch media.Choice, insideToM, insideFromM, wastePct float64) {
+// transition, also the inside cable, which takes what the engine laid inside the buildings
+// of the transition's ends (media.Choice.InsideAM and InsideBM: riser, service coil,
+// entrance loop, in-building trays; A is the served building, Link.To, B the cross-connect's,
+// Link.From, as fillLeg gives the link's ends): at each such end a piece of that end's share,
+// with the design's waste, cut to a whole metre, as a crew cuts each piece from its reel.
+func (t *CableTakeoff) Fit(cat *media.Catalog, ch media.Choice, wastePct float64) {
 	m := cat.Medium(ch.Medium)
 	t.Size, t.Cables = m.Construction(ch.Construction).Fit(ch.Strands)
 	t.Terminated = ch.Strands
 	if ch.Inside != "" {
 		t.InsideSize, t.InsideCables = m.Construction(ch.Inside).Fit(ch.Strands)
-		t.InsideRunM = ch.InsideM
-		// ch.InsideM is the two ends' share together, at most the channel: the ends' shares
-		// scaled to it when it was cut short, halves when the link gave none.
-		to, from := insideToM, insideFromM
-		if sum := to + from; sum <= 0 {
-			to, from = ch.InsideM/2, ch.InsideM/2
-		} else if sum > ch.InsideM {
-			to, from = to*ch.InsideM/sum, from*ch.InsideM/sum
-		}
+		t.InsideRunM, t.InsideEnds = ch.InsideM, ch.InsideAt.Count()
+		to, from := ch.InsideAM, ch.InsideBM
 		t.insideToChM, t.insideFromChM = to, from
 		piece := func(m float64) float64 { return math.Ceil(m*(1+wastePct/100) - 1e-9) }
 		t.InsideToM = math.Min(t.LengthM, piece(to))
@@ -529,10 +524,11 @@ func (t *CableTakeoff) Fit(cat *media.Catalog, ch media.Choice, insideToM, insid
 }
 
 // cutOutside places the joins and cuts the reels of a leg with an entrance transition over its
-// outside-plant cable only, after Fit: that cable runs between the two transition splices, and
-// the inside pieces at each end are other cable from other reels, so a reel starts at the
-// served building's transition (insideToChM along the channel) and the last ends at the
-// cross-connect's. Splices keep their places along the whole channel; ReelsM is then the
+// outside-plant cable only, after Fit: that cable runs between the transition splices (or
+// from one to the telecom room at an end without a transition), and the inside pieces are
+// other cable from other reels, so a reel starts at the served building's transition
+// (insideToChM along the channel, 0 without one there) and the last ends at the
+// cross-connect's (or its telecom room). Splices keep their places along the whole channel; ReelsM is then the
 // outside cable's reels (summing to OutsideLengthM), and LengthM the outside reels plus the
 // inside pieces. It returns whether the joins changed. Without a transition it does nothing.
 func (t *CableTakeoff) cutOutside(d plan.Design) bool {
