@@ -340,44 +340,12 @@ func (b *builder) validate() {
 
 // setup projects everything and indexes vertices and segments.
 func (b *builder) setup() {
+	b.project()
+	if b.overlaps() { // copies dropped: project the campus without them, and look again
+		b.project()
+		b.overlaps()
+	}
 	c := b.c
-	var bound orb.Bound
-	first := true
-	ext := func(p orb.Point) {
-		if first {
-			bound, first = orb.Bound{Min: p, Max: p}, false
-		} else {
-			bound = bound.Extend(p)
-		}
-	}
-	for _, pw := range c.Pathways {
-		for _, ls := range pw.Lines {
-			for _, p := range ls {
-				ext(p)
-			}
-		}
-	}
-	for _, bl := range c.Buildings {
-		for _, poly := range bl.Footprint {
-			for _, r := range poly {
-				for _, p := range r {
-					ext(p)
-				}
-			}
-		}
-	}
-	for _, s := range c.Structures {
-		ext(s.Point)
-	}
-	for _, e := range c.Entrances {
-		ext(e.Point)
-	}
-	b.proj = newProjector(bound)
-	lo, hi := b.proj.xy(bound.Min), b.proj.xy(bound.Max)
-	cell := math.Max(minCellM, math.Max(hi.x-lo.x, hi.y-lo.y)/1024)
-	b.segGrid, b.vtxGrid, b.cellM = newGrid(cell), newGrid(cell), cell
-	b.overlaps()
-	c = b.c
 
 	var stack [][2]int // markKept's scratch
 	for pi, pw := range c.Pathways {
@@ -417,6 +385,47 @@ func (b *builder) setup() {
 	for i, bl := range c.Buildings {
 		b.feet[i] = newFootprint(b.proj, bl.Footprint)
 	}
+}
+
+// project sets the local projection around the campus's bounding box, and the grids' cell
+// size from its extent.
+func (b *builder) project() {
+	c := b.c
+	var bound orb.Bound
+	first := true
+	ext := func(p orb.Point) {
+		if first {
+			bound, first = orb.Bound{Min: p, Max: p}, false
+		} else {
+			bound = bound.Extend(p)
+		}
+	}
+	for _, pw := range c.Pathways {
+		for _, ls := range pw.Lines {
+			for _, p := range ls {
+				ext(p)
+			}
+		}
+	}
+	for _, bl := range c.Buildings {
+		for _, poly := range bl.Footprint {
+			for _, r := range poly {
+				for _, p := range r {
+					ext(p)
+				}
+			}
+		}
+	}
+	for _, s := range c.Structures {
+		ext(s.Point)
+	}
+	for _, e := range c.Entrances {
+		ext(e.Point)
+	}
+	b.proj = newProjector(bound)
+	lo, hi := b.proj.xy(bound.Min), b.proj.xy(bound.Max)
+	cell := math.Max(minCellM, math.Max(hi.x-lo.x, hi.y-lo.y)/1024)
+	b.segGrid, b.vtxGrid, b.cellM = newGrid(cell), newGrid(cell), cell
 }
 
 // projectLine is line src with its repeated positions dropped (dropRepeats), on the local

@@ -72,13 +72,12 @@ type olPair struct {
 }
 
 // sameProps reports whether pathways a and b say the same of their ducts in every property but
-// their ids: they carry the same ducts (sameDucts), in the same setting, and are in one
-// shared-risk group or give none (a copy of a pathway whose group is its own id names that
-// group, as it does).
+// their ids: they carry the same ducts (sameDucts), in the same setting, and give the same
+// shared-risk group or none.
 func sameProps(a, b *Pathway) bool {
 	da, db := a.ductFacts(), b.ductFacts()
 	return sameDucts(da, db) && a.EMI == b.EMI && a.Surface == b.Surface && a.Method == b.Method &&
-		a.MethodSet == b.MethodSet && a.Plenum == b.Plenum && (da.group == db.group || da.givenGroup() == db.givenGroup())
+		a.MethodSet == b.MethodSet && a.Plenum == b.Plenum && da.givenGroup() == db.givenGroup()
 }
 
 // overlaps looks for pathways drawn on top of one another before noding, on a copy of the
@@ -98,8 +97,11 @@ func sameProps(a, b *Pathway) bool {
 //
 // Two lines of one MultiLineString are taken as two pathways of the same ducts.
 //
-// It needs b.proj. Time O(n) in the number of segments with the grid, as crossings.
-func (b *builder) overlaps() {
+// When it drops copies it stops there and reports true: the caller projects the campus
+// without them (a copy a millimetre off must move nothing, the projection's centre included)
+// and calls it again for the rest. It needs b.proj. Time O(n) in the number of segments with
+// the grid, as crossings.
+func (b *builder) overlaps() bool {
 	c := *b.c
 	c.Pathways = slices.Clone(c.Pathways)
 	b.c = &c
@@ -175,7 +177,11 @@ func (b *builder) overlaps() {
 		}
 		return x[1] - y[1]
 	})
-	dropped := b.dropCopies(lines, pairs, order)
+	if dropped := b.dropCopies(lines, pairs, order); len(dropped) > 0 {
+		// setup projects the campus without them and calls again for the rest.
+		c.Pathways = withoutDropped(c.Pathways, dropped)
+		return true
+	}
 	type trim struct{ from, to float64 } // the stretch of a line kept
 	trims := make(map[int]*trim)
 	keep := func(li int) *trim {
@@ -187,9 +193,6 @@ func (b *builder) overlaps() {
 	for _, key := range order {
 		p := pairs[key]
 		la, lb := &lines[p.a], &lines[p.b]
-		if dropped[la.pw] || dropped[lb.pw] {
-			continue
-		}
 		merged := mergeStretches(p.st)
 		total := 0.0
 		for _, m := range merged {
@@ -240,12 +243,9 @@ func (b *builder) overlaps() {
 			twoLines(pa, pb, la, lb), shortM(total), fmtM(b.snap))})
 	}
 	if len(trims) == 0 {
-		if len(dropped) == 0 {
-			// The lines are the parts setup makes, in its order: its segment index is this one.
-			b.segGrid, b.olines = g, lines
-		}
-		c.Pathways = withoutDropped(c.Pathways, dropped)
-		return
+		// The lines are the parts setup makes, in its order: its segment index is this one.
+		b.segGrid, b.olines = g, lines
+		return false
 	}
 	lis := make([]int, 0, len(trims))
 	for li := range trims {
@@ -263,7 +263,7 @@ func (b *builder) overlaps() {
 		}
 		pw.Lines[l.k] = l.cutTo(t.from, t.to)
 	}
-	c.Pathways = withoutDropped(c.Pathways, dropped)
+	return false
 }
 
 // withoutDropped is pws without the pathways (by index) in dropped.
