@@ -1146,20 +1146,24 @@ const (
 	junctionSkew    = 8.0 // within a cell, by junctionSkew × metres east + metres north
 )
 
-// junctionCell is the cell of the numbering grid that p lies in, and p's place within it
-// along junctionSkew (see junctionCellDeg).
-func junctionCell(p orb.Point) (lon, lat int64, skew float64) {
+// numPlace is a point's cell of the numbering grid and its place within the cell along
+// junctionSkew (see junctionCellDeg).
+type numPlace struct {
+	lon, lat int64
+	skew     float64
+}
+
+// placeOf is p's place on the numbering grid.
+func placeOf(p orb.Point) numPlace {
 	fx, fy := p[0]/junctionCellDeg-1.0/3, p[1]/junctionCellDeg-1.0/3
 	cx, cy := math.Floor(fx), math.Floor(fy)
 	east := (fx - cx) * math.Cos((cy+1.0/3)*junctionCellDeg*math.Pi/180) // in cells of latitude, as north is
-	return int64(cx), int64(cy), junctionSkew*east + (fy - cy)
+	return numPlace{int64(cx), int64(cy), junctionSkew*east + (fy - cy)}
 }
 
-// cmpPlaces orders two points as junctions and entrances are numbered: by junctionCell.
-func cmpPlaces(p, q orb.Point) int {
-	px, py, ps := junctionCell(p)
-	qx, qy, qs := junctionCell(q)
-	return cmp.Or(cmp.Compare(px, qx), cmp.Compare(py, qy), cmp.Compare(ps, qs))
+// cmpPlaces orders two places as junctions and entrances are numbered.
+func cmpPlaces(a, c numPlace) int {
+	return cmp.Or(cmp.Compare(a.lon, c.lon), cmp.Compare(a.lat, c.lat), cmp.Compare(a.skew, c.skew))
 }
 
 // joints returns the junctions (by root) where two pieces of one run meet end to end and
@@ -1264,7 +1268,7 @@ func (b *builder) number() {
 	}
 	type unnamed struct {
 		root int
-		at   orb.Point
+		at   numPlace
 		tie  string
 	}
 	tie := make(map[int]string)
@@ -1287,7 +1291,7 @@ func (b *builder) number() {
 		if _, named := b.ids[r]; named {
 			continue
 		}
-		list = append(list, unnamed{r, b.rep[r], tie[r]})
+		list = append(list, unnamed{r, placeOf(b.rep[r]), tie[r]})
 	}
 	slices.SortFunc(list, func(a, c unnamed) int {
 		return cmp.Or(cmpPlaces(a.at, c.at), strings.Compare(a.tie, c.tie), cmp.Compare(a.root, c.root))

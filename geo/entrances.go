@@ -97,7 +97,7 @@ func (b *builder) entrances(n *Network) {
 		}
 		slices.SortFunc(unnamed, func(i, j int) int {
 			x, y := list[i], list[j]
-			return cmp.Or(cmpPlaces(b.rep[x.root], b.rep[y.root]), strings.Compare(x.Junction, y.Junction))
+			return cmp.Or(cmpPlaces(placeOf(b.rep[x.root]), placeOf(b.rep[y.root])), strings.Compare(x.Junction, y.Junction))
 		})
 		k := 0
 		for _, i := range unnamed {
