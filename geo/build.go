@@ -1136,8 +1136,9 @@ func lessLL(a, b orb.Point) bool {
 // Junction numbering (number): unnamed junctions are numbered in cells of junctionCellDeg
 // of longitude and latitude, west to east by column, south to north within a column, and
 // within one cell along junctionSkew (about 7° north of east). A cell's edges lie a third of a
-// cell past each multiple of junctionCellDeg, so that no coordinate given to 7 decimals or
-// fewer lies within 2 mm of one: a junction moved by a millimetre or so (a re-export, a
+// cell past each multiple of junctionCellDeg, so that a coordinate given to 7 decimals or
+// fewer lies at least 3.3e-8° from one (3.7 mm north–south; east–west 3.7 mm × the cosine of
+// the latitude, 2 mm at 57°): a junction moved by a millimetre or so (a re-export, a
 // reprojection round trip) keeps its cell, and within a cell two junctions a snap apart are
 // not ordered by a coordinate they nearly share (a north–south street's junctions share a
 // longitude; ordered by it, as before, a millimetre renumbered them: tester 10, F7).
