@@ -78,7 +78,11 @@ const minCellM = 25.0
 // together as an *input.Problems. Snapping and intersection tests use an equirectangular projection
 // around the campus's centre; every length is ellipsoidal (DistanceM). The result depends only
 // on the input, byte for byte; junction numbers (JunctionPrefix + zero-padded number) follow
-// the junctions' coordinates, so reordering features keeps every ID. Campuses across the
+// the junctions' places on a grid coarser than a millimetre (junctionCellDeg), so reordering,
+// renaming or reversing features, or moving every vertex by a millimetre, keeps every ID; a
+// point where two pieces of one run meet end to end and nothing else does takes no number
+// but the names of its two spans (joints), so splitting a pathway there keeps them too.
+// Campuses across the
 // ±180° meridian are not supported. Time is about O(n log n) in the number of vertices, using
 // a grid index.
 func Build(c *Campus, opt Options) (*Network, error) {
@@ -264,6 +268,7 @@ type builder struct {
 	parted  map[int][][]int   // building index → the members splitInside parted, per meeting point
 	ids     map[int]string    // root → junction ID
 	taps    []tapReq          // counted laterals' taps planAccess found, for placeTaps
+	spanID  []string          // per piece: its span's ID (spanIDs)
 	buf     []int32
 	chords  [][3]int // scratch: lateralPlace's chords
 }
@@ -350,44 +355,12 @@ func (b *builder) validate() {
 
 // setup projects everything and indexes vertices and segments.
 func (b *builder) setup() {
+	b.project()
+	if b.overlaps() { // copies dropped: project the campus without them, and look again
+		b.project()
+		b.overlaps()
+	}
 	c := b.c
-	var bound orb.Bound
-	first := true
-	ext := func(p orb.Point) {
-		if first {
-			bound, first = orb.Bound{Min: p, Max: p}, false
-		} else {
-			bound = bound.Extend(p)
-		}
-	}
-	for _, pw := range c.Pathways {
-		for _, ls := range pw.Lines {
-			for _, p := range ls {
-				ext(p)
-			}
-		}
-	}
-	for _, bl := range c.Buildings {
-		for _, poly := range bl.Footprint {
-			for _, r := range poly {
-				for _, p := range r {
-					ext(p)
-				}
-			}
-		}
-	}
-	for _, s := range c.Structures {
-		ext(s.Point)
-	}
-	for _, e := range c.Entrances {
-		ext(e.Point)
-	}
-	b.proj = newProjector(bound)
-	lo, hi := b.proj.xy(bound.Min), b.proj.xy(bound.Max)
-	cell := math.Max(minCellM, math.Max(hi.x-lo.x, hi.y-lo.y)/1024)
-	b.segGrid, b.vtxGrid, b.cellM = newGrid(cell), newGrid(cell), cell
-	b.overlaps()
-	c = b.c
 
 	var stack [][2]int // markKept's scratch
 	for pi, pw := range c.Pathways {
@@ -427,6 +400,47 @@ func (b *builder) setup() {
 	for i, bl := range c.Buildings {
 		b.feet[i] = newFootprint(b.proj, bl.Footprint)
 	}
+}
+
+// project sets the local projection around the campus's bounding box, and the grids' cell
+// size from its extent.
+func (b *builder) project() {
+	c := b.c
+	var bound orb.Bound
+	first := true
+	ext := func(p orb.Point) {
+		if first {
+			bound, first = orb.Bound{Min: p, Max: p}, false
+		} else {
+			bound = bound.Extend(p)
+		}
+	}
+	for _, pw := range c.Pathways {
+		for _, ls := range pw.Lines {
+			for _, p := range ls {
+				ext(p)
+			}
+		}
+	}
+	for _, bl := range c.Buildings {
+		for _, poly := range bl.Footprint {
+			for _, r := range poly {
+				for _, p := range r {
+					ext(p)
+				}
+			}
+		}
+	}
+	for _, s := range c.Structures {
+		ext(s.Point)
+	}
+	for _, e := range c.Entrances {
+		ext(e.Point)
+	}
+	b.proj = newProjector(bound)
+	lo, hi := b.proj.xy(bound.Min), b.proj.xy(bound.Max)
+	cell := math.Max(minCellM, math.Max(hi.x-lo.x, hi.y-lo.y)/1024)
+	b.segGrid, b.vtxGrid, b.cellM = newGrid(cell), newGrid(cell), cell
 }
 
 // projectLine is line src with its repeated positions dropped (dropRepeats), on the local
@@ -1283,7 +1297,98 @@ func lessLL(a, b orb.Point) bool {
 	return a[1] < b[1]
 }
 
-// number names every junction that a piece or an access uses.
+// Junction numbering (number): unnamed junctions are numbered in cells of junctionCellDeg
+// of longitude and latitude, west to east by column, south to north within a column, and
+// within one cell along junctionSkew (about 7° north of east). A cell's edges lie a third of a
+// cell past each multiple of junctionCellDeg, so that a coordinate given to 7 decimals or
+// fewer lies at least 3.3e-8° from one (3.7 mm north–south; east–west 3.7 mm × the cosine of
+// the latitude, 2 mm at 57°): a junction moved by a millimetre or so (a re-export, a
+// reprojection round trip) keeps its cell, and within a cell two junctions a snap apart are
+// not ordered by a coordinate they nearly share (a north–south street's junctions share a
+// longitude; ordered by it, as before, a millimetre renumbered them: tester 10, F7).
+const (
+	junctionCellDeg = 1e-4
+	junctionSkew    = 8.0 // within a cell, by junctionSkew × metres east + metres north
+)
+
+// numPlace is a point's cell of the numbering grid and its place within the cell along
+// junctionSkew (see junctionCellDeg).
+type numPlace struct {
+	lon, lat int64
+	skew     float64
+}
+
+// placeOf is p's place on the numbering grid.
+func placeOf(p orb.Point) numPlace {
+	fx, fy := p[0]/junctionCellDeg-1.0/3, p[1]/junctionCellDeg-1.0/3
+	cx, cy := math.Floor(fx), math.Floor(fy)
+	east := (fx - cx) * math.Cos((cy+1.0/3)*junctionCellDeg*math.Pi/180) // in cells of latitude, as north is
+	return numPlace{int64(cx), int64(cy), junctionSkew*east + (fy - cy)}
+}
+
+// cmpPlaces orders two places as junctions and entrances are numbered.
+func cmpPlaces(a, c numPlace) int {
+	return cmp.Or(cmp.Compare(a.lon, c.lon), cmp.Compare(a.lat, c.lat), cmp.Compare(a.skew, c.skew))
+}
+
+// joints returns the junctions (by root) where two pieces of one run meet end to end and
+// nothing else does: exactly two piece ends, of two pieces that carry the same ducts
+// (sameDucts; two lines of one pathway do), no structure, entrance or access there. Such a
+// point is where a GIS split a line, no place in the ground: it takes no number, and is named
+// by the spans that meet there (jointName), so that splitting a pathway at a vertex renames
+// no junction. A name that another joint or an input id already has leaves its joint
+// numbered as other junctions are.
+func (b *builder) joints(used map[int]bool, declared map[string]bool) map[int]string {
+	ends := make(map[int][]int) // root → the pieces with an end there
+	for k, pc := range b.pieces {
+		ends[pc.from] = append(ends[pc.from], k)
+		ends[pc.to] = append(ends[pc.to], k)
+	}
+	door := make(map[int]bool)
+	for _, ds := range b.doors {
+		for _, d := range ds {
+			if d.target >= 0 {
+				door[b.find(d.target)] = true
+			}
+		}
+	}
+	names := make(map[int]string)
+	count := make(map[string]int)
+	for r, ks := range ends {
+		if !used[r] || b.labeled[r] || door[r] || len(ks) != 2 || ks[0] == ks[1] {
+			continue
+		}
+		if _, named := b.ids[r]; named {
+			continue
+		}
+		pa, pb := &b.c.Pathways[b.parts[b.pieces[ks[0]].part].pw], &b.c.Pathways[b.parts[b.pieces[ks[1]].part].pw]
+		if !sameDucts(pa.ductFacts(), pb.ductFacts()) {
+			continue
+		}
+		name := jointName(b.spanID[ks[0]], b.spanID[ks[1]])
+		names[r] = name
+		count[name]++
+	}
+	for r, name := range names {
+		if count[name] > 1 || declared[name] {
+			delete(names, r)
+		}
+	}
+	return names
+}
+
+// jointName names the point where spans x and y meet end to end (joints): their ids, the
+// lower first, joined by "+".
+func jointName(x, y string) string {
+	if y < x {
+		x, y = y, x
+	}
+	return x + "+" + y
+}
+
+// number names every junction that a piece or an access uses: a structure's or entrance's
+// id, a joint's name (joints), else JunctionPrefix and a number in the order of the numbering
+// grid (junctionCellDeg).
 func (b *builder) number() {
 	used := make(map[int]bool)
 	for _, pc := range b.pieces {
@@ -1322,10 +1427,14 @@ func (b *builder) number() {
 			b.ids[r] = b.entIDs[m.ref]
 		}
 	}
+	b.spanID = b.spanIDs()
+	for r, name := range b.joints(used, declared) {
+		b.ids[r] = name
+	}
 	type unnamed struct {
-		root     int
-		lon, lat int64
-		tie      string
+		root int
+		at   numPlace
+		tie  string
 	}
 	tie := make(map[int]string)
 	for i, m := range b.mem {
@@ -1347,23 +1456,20 @@ func (b *builder) number() {
 		if _, named := b.ids[r]; named {
 			continue
 		}
-		pt := b.rep[r]
-		list = append(list, unnamed{r, int64(math.Round(pt[0] * 1e7)), int64(math.Round(pt[1] * 1e7)), tie[r]})
+		list = append(list, unnamed{r, placeOf(b.rep[r]), tie[r]})
 	}
-	sort.Slice(list, func(i, j int) bool {
-		a, c := list[i], list[j]
-		if a.lon != c.lon {
-			return a.lon < c.lon
-		}
-		if a.lat != c.lat {
-			return a.lat < c.lat
-		}
-		if a.tie != c.tie {
-			return a.tie < c.tie
-		}
-		return a.root < c.root
+	slices.SortFunc(list, func(a, c unnamed) int {
+		return cmp.Or(cmpPlaces(a.at, c.at), strings.Compare(a.tie, c.tie), cmp.Compare(a.root, c.root))
 	})
-	width := max(4, len(strconv.Itoa(len(list)+len(declared))))
+	// Numbers skip the input ids of their form; how many pathways there are (a split adds
+	// one) changes no number's width.
+	skip := 0
+	for id := range declared {
+		if rest, ok := strings.CutPrefix(id, JunctionPrefix); ok && rest != "" && strings.Trim(rest, "0123456789") == "" {
+			skip++
+		}
+	}
+	width := max(4, len(strconv.Itoa(len(list)+skip)))
 	n := 0
 	for _, u := range list {
 		var id string
@@ -1376,6 +1482,27 @@ func (b *builder) number() {
 		}
 		b.ids[u.root] = id
 	}
+}
+
+// spanIDs is each piece's span ID (Span.ID), by index into b.pieces: the pathway's id, with
+// "/" and the piece's number along it (pieceOrder) when the pathway is several spans.
+func (b *builder) spanIDs() []string {
+	count := make(map[int]int)
+	for _, pc := range b.pieces {
+		count[b.parts[pc.part].pw]++
+	}
+	seq := make(map[int]int)
+	ids := make([]string, len(b.pieces))
+	for _, i := range b.pieceOrder() {
+		pw := b.parts[b.pieces[i].part].pw
+		id := b.c.Pathways[pw].ID
+		if count[pw] > 1 {
+			seq[pw]++
+			id += "/" + strconv.Itoa(seq[pw])
+		}
+		ids[i] = id
+	}
+	return ids
 }
 
 // pieceOrder lists the pieces in the order their pathways number them (Span.ID's piece
@@ -1428,20 +1555,11 @@ func (b *builder) pieceOrder() []int {
 }
 
 func (b *builder) spans(n *Network) {
-	count := make(map[int]int)
-	for _, pc := range b.pieces {
-		count[b.parts[pc.part].pw]++
-	}
-	seq := make(map[int]int)
 	for _, i := range b.pieceOrder() {
 		pc := b.pieces[i]
 		p := b.parts[pc.part]
 		pw := b.c.Pathways[p.pw]
-		id := pw.ID
-		if count[p.pw] > 1 {
-			seq[p.pw]++
-			id = pw.ID + "/" + strconv.Itoa(seq[p.pw])
-		}
+		id := b.spanID[i]
 		pts, from, to := canonical(pc)
 		bends, near := b.lineBends(pts)
 		n.Spans = append(n.Spans, Span{

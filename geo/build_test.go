@@ -2,6 +2,7 @@ package geo
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"reflect"
@@ -797,5 +798,94 @@ func TestLateralTapOnDensifiedRun(t *testing.T) {
 	}
 	if d := math.Abs(taps[0].LateralM - taps[1].LateralM); d > 1e-4 {
 		t.Errorf("the lateral is %.4f m, %.4f m on the straight run", taps[1].LateralM, taps[0].LateralM)
+	}
+}
+
+// Junction numbers name handholes to build in a bid (the bill, the structures table, each
+// leg's turns), so a redraw that changes nothing in the ground must not change them (tester
+// 10, F7): every vertex moved 1 mm (a re-export, a reprojection round trip), and a street
+// split into two features at a vertex where nothing joins it. The campus is a street grid
+// drawn the way hand-made and generated files are: north–south streets at one exact
+// longitude (one of them a whole degree), laterals off them, so that ordering by longitude
+// then latitude (as before) let a millimetre reorder a street's junctions. The split point
+// takes no number: it is named by the spans that meet there.
+func TestJunctionNumbersKept(t *testing.T) {
+	t.Parallel()
+	campus := func(split bool, move func(orb.Point) orb.Point) *Campus {
+		c := &Campus{}
+		add := func(id string, xy ...float64) {
+			l := ml(xy...)
+			for i := range l {
+				l[i] = move(l[i])
+			}
+			c.Pathways = append(c.Pathways, pw(id, l))
+		}
+		for i, x := range []float64{0, 80, 160} {
+			if split && i == 1 {
+				add("NS-1", x, 0, x, 30)
+				add("NS-1b", x, 30, x, 60, x, 120)
+				continue
+			}
+			add(fmt.Sprintf("NS-%d", i), x, 0, x, 30, x, 60, x, 120)
+		}
+		for j, y := range []float64{0, 60, 120} {
+			add(fmt.Sprintf("EW-%d", j), 0, y, 80, y, 160, y)
+		}
+		for k, y := range []float64{10, 20, 45, 75, 90, 105} { // laterals east and west of each street
+			for i, x := range []float64{0, 80, 160} {
+				add(fmt.Sprintf("L-%d-%d", i, k), x, y, x+6*float64(1-2*(k%2)), y)
+			}
+		}
+		return c
+	}
+	same := func(p orb.Point) orb.Point { return p }
+	names := func(n *Network) map[string]orb.Point {
+		out := map[string]orb.Point{}
+		for _, j := range n.Junctions {
+			out[j.ID] = j.Point
+		}
+		return out
+	}
+	base := build(t, campus(false, same))
+	want := names(base)
+	if len(want) < 40 {
+		t.Fatalf("%d junctions, want the grid's 40 or more", len(want))
+	}
+	check := func(what string, got map[string]orb.Point, tolM float64) {
+		t.Helper()
+		for id, p := range want {
+			if q, ok := got[id]; !ok || DistanceM(p, q) > tolM {
+				t.Errorf("%s: junction %s at %v, now %v (present %v)", what, id, p, q, ok)
+			}
+		}
+	}
+	for trial := range 5 {
+		r := rand.New(rand.NewPCG(7, uint64(trial)))
+		moved := map[orb.Point]orb.Point{}
+		move := func(p orb.Point) orb.Point {
+			if q, ok := moved[p]; ok {
+				return q
+			}
+			a := r.Float64() * 2 * math.Pi
+			q := orb.Point{p[0] + 1e-3*math.Cos(a)/(111195*math.Cos(50*deg)), p[1] + 1e-3*math.Sin(a)/111195}
+			moved[p] = q
+			return q
+		}
+		n := build(t, campus(false, move))
+		got := names(n)
+		check(fmt.Sprintf("trial %d, every vertex 1 mm off", trial), got, 0.005)
+		if len(got) != len(want) {
+			t.Errorf("trial %d: %d junctions, want %d", trial, len(got), len(want))
+		}
+	}
+	n := build(t, campus(true, same))
+	got := names(n)
+	check("NS-1 split at (80, 30)", got, 1e-6)
+	joint := "NS-1/3+NS-1b/1" // the spans that meet there: laterals cut NS-1, EW-1 NS-1b
+	if p, ok := got[joint]; !ok || DistanceM(p, at(80, 30)) > 1e-6 || len(got) != len(want)+1 {
+		t.Errorf("split: junctions %v; want those of the unsplit grid and %s at the split point", got, joint)
+	}
+	if m, ok := n.MeetingAt(joint); !ok || m.Degree != 2 {
+		t.Errorf("split: meeting at %s %+v, want the two pieces", joint, m)
 	}
 }

@@ -18,8 +18,9 @@ const EntrySep = ":"
 type Entry struct {
 	// ID is a declared entrance's junction ID (its id, or the one EntranceIDs gives it). An
 	// entry that is not a declared entrance is named by its building's ID, EntrySep and a
-	// number from 1, in the order of the entries' junction points (longitude, then latitude)
-	// among the building's undeclared entries; a number whose name a declared entrance has is
+	// number from 1, in the order of the entries' junction points (as junctions are numbered:
+	// by the cells of junctionCellDeg, so that a millimetre does not reorder them) among the
+	// building's undeclared entries; a number whose name a declared entrance has is
 	// skipped. So the name depends on where the building's entrances are, not on the order of
 	// the features or on other features' ids.
 	ID string
@@ -96,8 +97,7 @@ func (b *builder) entrances(n *Network) {
 		}
 		slices.SortFunc(unnamed, func(i, j int) int {
 			x, y := list[i], list[j]
-			px, py := b.rep[x.root], b.rep[y.root]
-			return cmp.Or(cmp.Compare(px[0], py[0]), cmp.Compare(px[1], py[1]), strings.Compare(x.Junction, y.Junction))
+			return cmp.Or(cmpPlaces(placeOf(b.rep[x.root]), placeOf(b.rep[y.root])), strings.Compare(x.Junction, y.Junction))
 		})
 		k := 0
 		for _, i := range unnamed {

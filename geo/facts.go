@@ -152,7 +152,8 @@ func fmtBeyond(d, snap float64) string {
 
 // EndName names the junction with the given ID as the end of a span a crew measures from: the
 // building it enters (Meeting.Buildings, joined by "/" where several), else its ID (a
-// structure's own id, or "J" and a number, which the outputs place by its coordinates).
+// structure's own id, "J" and a number, which the outputs place by its coordinates, or the
+// two spans that meet there end to end, "A+B").
 func (n *Network) EndName(junction string) string {
 	if m, ok := n.MeetingAt(junction); ok && len(m.Buildings) > 0 {
 		return strings.Join(m.Buildings, "/")

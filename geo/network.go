@@ -35,7 +35,7 @@ const (
 
 // Junction is a vertex of the pathway network.
 type Junction struct {
-	ID            string // a structure's or entrance's id, else "J" + a number assigned in a fixed order
+	ID            string // a structure's or entrance's id; where two spans of one run meet end to end and nothing else does, their ids joined by "+"; else "J" + a number in the order of the junctions' places
 	Kind          string
 	StructureType string // for JunctionStructure
 	Point         orb.Point

@@ -1,6 +1,7 @@
 package geo
 
 import (
+	"cmp"
 	"fmt"
 	"math"
 	"slices"
@@ -61,6 +62,9 @@ func (l *oline) cutTo(s0, s1 float64) orb.LineString {
 // a1), at b0 and b1 along the second (either order).
 type stretch struct{ a0, a1, b0, b1 float64 }
 
+// olSeg is segment i (from vertex i) of line (an index into the builder's olines).
+type olSeg struct{ line, i int }
+
 // olPair is two lines (indices into the builder's olines, a < b) drawn along each other.
 type olPair struct {
 	a, b int
@@ -76,71 +80,13 @@ func sameProps(a, b *Pathway) bool {
 		a.MethodSet == b.MethodSet && a.Plenum == b.Plenum && da.givenGroup() == db.givenGroup()
 }
 
-// shape is a pathway's lines in a form that does not depend on the direction each is drawn
-// in, their order, or a position repeated in a row: two pathways of equal shapes are one
-// drawing.
-func shape(pw *Pathway) []orb.LineString {
-	lines := make([]orb.LineString, 0, len(pw.Lines))
-	for _, ls := range pw.Lines {
-		pts := dropRepeats(make(orb.LineString, 0, len(ls)), ls)
-		if n := len(pts); n > 0 && lessLL(pts[n-1], pts[0]) {
-			slices.Reverse(pts)
-		}
-		lines = append(lines, pts)
-	}
-	slices.SortFunc(lines, func(x, y orb.LineString) int {
-		for i := 0; i < len(x) && i < len(y); i++ {
-			if x[i] != y[i] {
-				if lessLL(x[i], y[i]) {
-					return -1
-				}
-				return 1
-			}
-		}
-		return len(x) - len(y)
-	})
-	return lines
-}
-
-// sameShape reports whether shapes x and y are one drawing.
-func sameShape(x, y []orb.LineString) bool {
-	return slices.EqualFunc(x, y, func(a, b orb.LineString) bool { return slices.Equal(a, b) })
-}
-
-// shapeHint is what two pathways of one shape share, cheap to find: the least of their lines'
-// ends (each line's ends in order), their counts of lines and of positions (a position
-// repeated in a row counted once).
-type shapeHint struct {
-	lo, hi      orb.Point
-	lines, npts int
-}
-
-// hintOf is pw's shapeHint; buf is scratch, returned for the next call.
-func hintOf(pw *Pathway, buf orb.LineString) (shapeHint, orb.LineString) {
-	h := shapeHint{lines: len(pw.Lines)}
-	first := true
-	for _, ls := range pw.Lines {
-		buf = dropRepeats(buf[:0], ls)
-		h.npts += len(buf)
-		if len(ls) == 0 {
-			continue
-		}
-		lo, hi := ls[0], ls[len(ls)-1]
-		if lessLL(hi, lo) {
-			lo, hi = hi, lo
-		}
-		if first || lessLL(lo, h.lo) || (lo == h.lo && lessLL(hi, h.hi)) {
-			h.lo, h.hi, first = lo, hi, false
-		}
-	}
-	return h, buf
-}
-
 // overlaps looks for pathways drawn on top of one another before noding, on a copy of the
 // campus (b.c is replaced; the caller's campus is not changed):
-//   - a pathway that is another drawn again (the same lines, in any direction and order, and
-//     the same properties but its id) is dropped, with a Warning on it naming the one kept
-//     (the lower id): a segment exported twice is one duct, not two;
+//   - a pathway that is another drawn again (copies: the same properties but the id, and
+//     each line of either drawn along lines of the other, within SnapM and overlapMaxDeg,
+//     for all of its length but at most SnapM) is dropped, with a Warning on it naming the
+//     one kept (the lower id): a segment exported twice is one duct, not two, whether the
+//     copy is exact or a re-export moved a vertex by a millimetre;
 //   - two pathways that carry the same ducts (sameDucts), each ending on the other, drawn
 //     along each other for more than SnapM and at most overlapJoinM are cut back to meet at
 //     one point (a structure within SnapM of the overlap, else its middle), with a Warning:
@@ -151,12 +97,14 @@ func hintOf(pw *Pathway, buf orb.LineString) (shapeHint, orb.LineString) {
 //
 // Two lines of one MultiLineString are taken as two pathways of the same ducts.
 //
-// It needs b.proj. Time O(n) in the number of segments with the grid, as crossings.
-func (b *builder) overlaps() {
+// When it drops copies it stops there and reports true: the caller projects the campus
+// without them (a copy a millimetre off must move nothing, the projection's centre included)
+// and calls it again for the rest. It needs b.proj. Time O(n) in the number of segments with
+// the grid, as crossings.
+func (b *builder) overlaps() bool {
 	c := *b.c
 	c.Pathways = slices.Clone(c.Pathways)
 	b.c = &c
-	dropped := b.dropDuplicates()
 
 	nl, ns := 0, 0
 	for pi := range c.Pathways {
@@ -173,14 +121,13 @@ func (b *builder) overlaps() {
 			lines = append(lines, l)
 		}
 	}
-	type segID struct{ line, i int }
-	segs := make([]segID, 0, ns)
+	segs := make([]olSeg, 0, ns)
 	g := newGrid(b.cellM)
 	for li := range lines {
 		l := &lines[li]
 		for i := 1; i < len(l.xy); i++ {
 			g.addSeg(len(segs), l.xy[i-1], l.xy[i])
-			segs = append(segs, segID{li, i - 1})
+			segs = append(segs, olSeg{li, i - 1})
 		}
 	}
 	pairs := make(map[[2]int]*olPair)
@@ -230,6 +177,11 @@ func (b *builder) overlaps() {
 		}
 		return x[1] - y[1]
 	})
+	if dropped := b.dropCopies(lines, pairs, order); len(dropped) > 0 {
+		// setup projects the campus without them and calls again for the rest.
+		c.Pathways = withoutDropped(c.Pathways, dropped)
+		return true
+	}
 	type trim struct{ from, to float64 } // the stretch of a line kept
 	trims := make(map[int]*trim)
 	keep := func(li int) *trim {
@@ -291,11 +243,9 @@ func (b *builder) overlaps() {
 			twoLines(pa, pb, la, lb), shortM(total), fmtM(b.snap))})
 	}
 	if len(trims) == 0 {
-		if !dropped {
-			// The lines are the parts setup makes, in its order: its segment index is this one.
-			b.segGrid, b.olines = g, lines
-		}
-		return
+		// The lines are the parts setup makes, in its order: its segment index is this one.
+		b.segGrid, b.olines = g, lines
+		return false
 	}
 	lis := make([]int, 0, len(trims))
 	for li := range trims {
@@ -313,6 +263,21 @@ func (b *builder) overlaps() {
 		}
 		pw.Lines[l.k] = l.cutTo(t.from, t.to)
 	}
+	return false
+}
+
+// withoutDropped is pws without the pathways (by index) in dropped.
+func withoutDropped(pws []Pathway, dropped map[int]bool) []Pathway {
+	if len(dropped) == 0 {
+		return pws
+	}
+	kept := pws[:0:0]
+	for i, pw := range pws {
+		if !dropped[i] {
+			kept = append(kept, pw)
+		}
+	}
+	return kept
 }
 
 // twoLines names, for a warning, two pathways (the second's feature is the warning's own), or
@@ -418,56 +383,67 @@ func mergeStretches(st []stretch) []stretch {
 	return out
 }
 
-// dropDuplicates drops every pathway of b.c that is another drawn again: the same lines
-// (shapeKey) and the same properties but the id; the lowest id is kept. Each dropped one is a
-// Warning. It reports whether it dropped any.
-func (b *builder) dropDuplicates() bool {
+// dropCopies returns the pathways (indices into b.c.Pathways) that are another drawn again
+// (see overlaps), each with a Warning naming the one kept: of two copies the lower id is
+// kept, in id order, so that a dropped one drops no other and the same ones are dropped
+// whatever the order of the features. pairs and order are the lines drawn along each other.
+// The warning is the same for an exact copy and for one a millimetre off, so that the plan
+// is too.
+func (b *builder) dropCopies(lines []oline, pairs map[[2]int]*olPair, order [][2]int) map[int]bool {
 	c := b.c
-	// Only pathways with one hint can be one drawing.
-	first := make(map[shapeHint][]int)
-	var buf orb.LineString
-	for i := range c.Pathways {
-		var k shapeHint
-		k, buf = hintOf(&c.Pathways[i], buf)
-		first[k] = append(first[k], i)
-	}
-	drop := make(map[int]bool)
-	for _, same := range first {
-		if len(same) < 2 {
+	type pwPair struct{ a, b int }      // pathway indices, a's id the lower
+	cover := make(map[[2]int][]stretch) // {line, pathway} → the stretches of the line drawn along lines of the pathway (a0..a1)
+	seen := make(map[pwPair]bool)
+	var cands []pwPair
+	for _, key := range order {
+		p := pairs[key]
+		la, lb := &lines[p.a], &lines[p.b]
+		if la.pw == lb.pw || !sameProps(&c.Pathways[la.pw], &c.Pathways[lb.pw]) {
 			continue
 		}
-		// In id order, each kept one the lowest of its drawing: the same warnings whatever
-		// the order of the features.
-		slices.SortFunc(same, func(x, y int) int { return strings.Compare(c.Pathways[x].ID, c.Pathways[y].ID) })
-		shapes := make([][]orb.LineString, len(same))
-		for x, i := range same {
-			shapes[x] = shape(&c.Pathways[i])
+		for _, st := range p.st {
+			cover[[2]int{p.a, lb.pw}] = append(cover[[2]int{p.a, lb.pw}], stretch{a0: st.a0, a1: st.a1})
+			cover[[2]int{p.b, la.pw}] = append(cover[[2]int{p.b, la.pw}], stretch{a0: min(st.b0, st.b1), a1: max(st.b0, st.b1)})
 		}
-		for x, i := range same {
-			if drop[i] {
-				continue
+		if pp := (pwPair{la.pw, lb.pw}); !seen[pp] { // key[0] is the lower id's line
+			seen[pp] = true
+			cands = append(cands, pp)
+		}
+	}
+	if len(cands) == 0 {
+		return nil
+	}
+	linesOf := make(map[int][]int) // pathway → its lines
+	for li := range lines {
+		linesOf[lines[li].pw] = append(linesOf[lines[li].pw], li)
+	}
+	// covered reports whether every line of pathway x is drawn along lines of pathway y for
+	// all of its length but at most SnapM.
+	covered := func(x, y int) bool {
+		for _, li := range linesOf[x] {
+			along := 0.0
+			for _, m := range mergeStretches(cover[[2]int{li, y}]) {
+				along += m.a1 - m.a0
 			}
-			for y, j := range same[x+1:] {
-				pi, pj := &c.Pathways[i], &c.Pathways[j]
-				if drop[j] || !sameProps(pi, pj) || !sameShape(shapes[x], shapes[x+1+y]) {
-					continue
-				}
-				drop[j] = true // pj.ID > pi.ID
-				b.warns = append(b.warns, warnRec{pj.Source, pj.ID, fmt.Sprintf(
-					"pathway %q is pathway %q (%s) drawn again: the same line and properties; counted once, as %q",
-					pj.ID, pi.ID, pi.Source, pi.ID)})
+			if lines[li].lengthM()-along > b.snap {
+				return false
 			}
 		}
+		return true
 	}
-	if len(drop) == 0 {
-		return false
-	}
-	kept := c.Pathways[:0:0]
-	for i, pw := range c.Pathways {
-		if !drop[i] {
-			kept = append(kept, pw)
+	slices.SortFunc(cands, func(x, y pwPair) int {
+		return cmp.Or(strings.Compare(c.Pathways[x.a].ID, c.Pathways[y.a].ID), strings.Compare(c.Pathways[x.b].ID, c.Pathways[y.b].ID))
+	})
+	dropped := make(map[int]bool)
+	for _, pp := range cands {
+		if dropped[pp.a] || dropped[pp.b] || !covered(pp.a, pp.b) || !covered(pp.b, pp.a) {
+			continue
 		}
+		dropped[pp.b] = true
+		pi, pj := &c.Pathways[pp.a], &c.Pathways[pp.b]
+		b.warns = append(b.warns, warnRec{pj.Source, pj.ID, fmt.Sprintf(
+			"pathway %q is pathway %q (%s) drawn again: the same properties and the same line within snap_m %s; counted once, as %q",
+			pj.ID, pi.ID, pi.Source, fmtM(b.snap), pi.ID)})
 	}
-	c.Pathways = kept
-	return true
+	return dropped
 }

@@ -253,3 +253,76 @@ func TestOverlapWithinMultiLine(t *testing.T) {
 		t.Errorf("20 m along: got warnings %v", n.Warnings)
 	}
 }
+
+// A copy need not be exact to be a copy: a re-export or a reprojection round trip moves a
+// vertex by a millimetre, adds a vertex on a straight run or splits the line in two, and the
+// duct in the ground is still one (README: pathways drawn on top of one another, within
+// snap_m of each other and within 2° of one direction; common practice, no published
+// source). Tester 10 (F6): one vertex of a copy moved 1 mm made it a second duct bank with
+// its own spare ducts, capacity that does not exist. Each such copy must give the network of
+// the exact copy, spans and warnings alike; a copy with other properties, or one drawn beyond
+// snap_m, is planned as drawn (two pathways) as before.
+func TestNearCopyCountedOnce(t *testing.T) {
+	t.Parallel()
+	const mm = 1e-3
+	orig := pw("D-05", ml(0, 0, 100, 0, 200, 10, 260, 60))
+	street := pw("D-10", ml(0, -50, 0, 50))
+	lateral := pw("L-1", ml(150, 5, 150, 40)) // ends on the copied line, between its vertices
+	campus := func(cp Pathway) *Campus {
+		cp.Source.Index = 7
+		return &Campus{Pathways: []Pathway{orig, street, lateral, cp}}
+	}
+	exact := build(t, campus(pw("D-05-copy", ml(0, 0, 100, 0, 200, 10, 260, 60))))
+	if ws := warningsWith(exact, "drawn again"); len(ws) != 1 || ws[0].Feature != "#7 (D-05-copy)" {
+		t.Fatalf("exact copy: got warnings %v, want one on D-05-copy", exact.Warnings)
+	}
+	type spanOf struct{ ID, From, To, Line string }
+	key := func(n *Network) []spanOf {
+		var out []spanOf
+		for _, s := range n.Spans {
+			out = append(out, spanOf{s.ID, s.From, s.To, fmt.Sprint(s.Line)})
+		}
+		return out
+	}
+	copies := []struct {
+		name string
+		cp   Pathway
+	}{
+		{"one vertex 1 mm off", pw("D-05-copy", ml(0, 0, 100, mm, 200, 10, 260, 60))},
+		{"every vertex 1 mm off", pw("D-05-copy", ml(mm, 0, 100, -mm, 200-mm*0.7, 10+mm*0.7, 260, 60+mm))},
+		{"drawn the other way, 1 mm off", pw("D-05-copy", ml(260, 60+mm, 200, 10, 100, mm, 0, 0))},
+		{"a vertex added on a straight run", pw("D-05-copy", ml(0, 0, 50, 0, 100, 0, 200, 10, 260, 60))},
+		{"in two lines meeting at a vertex", pw("D-05-copy", ml(200, 10, 260, 60), ml(0, 0, 100, 0, 200, 10))},
+		{"ends 0.3 m short", pw("D-05-copy", ml(0.3, 0, 100, 0, 200, 10, 260, 60))},
+	}
+	for _, tc := range copies {
+		t.Run(tc.name, func(t *testing.T) {
+			t.Parallel()
+			n := build(t, campus(tc.cp))
+			if !slices.Equal(key(n), key(exact)) {
+				t.Errorf("spans differ from the exact copy's:\n%v\n%v", key(n), key(exact))
+			}
+			if !slices.Equal(n.Warnings, exact.Warnings) {
+				t.Errorf("warnings differ from the exact copy's:\n%v\n%v", n.Warnings, exact.Warnings)
+			}
+		})
+	}
+	kept := []struct {
+		name string
+		cp   Pathway
+	}{
+		{"other spare ducts, 1 mm off", withSpare(pw("D-05-copy", ml(0, 0, 100, mm, 200, 10, 260, 60)), 4)},
+		{"a bank 0.6 m beside it", pw("D-05-copy", ml(0, 0.6, 100, 0.6, 200, 10.6, 260, 60.6))},
+		{"1 m longer", pw("D-05-copy", ml(-1, 0, 100, 0, 200, 10, 260, 60))},
+		{"on top of half of it", pw("D-05-copy", ml(0, 0, 100, 0, 200, 10))},
+	}
+	for _, tc := range kept {
+		t.Run(tc.name, func(t *testing.T) {
+			t.Parallel()
+			n := build(t, campus(tc.cp))
+			if len(warningsWith(n, "drawn again:")) != 0 || !slices.ContainsFunc(n.Spans, func(s Span) bool { return s.PathwayID == "D-05-copy" }) {
+				t.Errorf("got spans %s, warnings %v; want D-05-copy planned as drawn", spanIDs(n), n.Warnings)
+			}
+		})
+	}
+}
