@@ -857,6 +857,8 @@ func (b *builder) placeTaps() {
 	// What a junction holds before the taps: more than one line, a structure, an entrance.
 	parts := make(map[int]int, len(b.mem)/2) // root → a part there (-1 when two or more)
 	entrance := make(map[int]bool)
+	ends := make(map[int][]int) // root → the parts with a line end there
+	mid := make(map[int]bool)   // root → some line passes there (not one of its ends)
 	for i, m := range b.mem {
 		r := b.find(i)
 		switch {
@@ -868,7 +870,23 @@ func (b *builder) placeTaps() {
 			} else if q != m.part {
 				parts[r] = -1
 			}
+			if m.kind == memVertex && (m.seg == 0 || m.seg == len(b.parts[m.part].xy)-1) {
+				ends[r] = append(ends[r], m.part)
+			} else {
+				mid[r] = true
+			}
 		}
+	}
+	// A point where two pieces of one run meet end to end with nothing else there (a pathway
+	// split at a vertex) branches nothing: a tap does not move to it, so that a split changes
+	// no tap (the joints that junction numbering leaves unnumbered, joints).
+	plain := func(r int) bool {
+		ps := ends[r]
+		if len(ps) != 2 || ps[0] == ps[1] || mid[r] || b.labeled[r] {
+			return false
+		}
+		pa, pb := &b.c.Pathways[b.parts[ps[0]].pw], &b.c.Pathways[b.parts[ps[1]].pw]
+		return sameDucts(pa.ductFacts(), pb.ductFacts())
 	}
 	junction := func(m int) bool { // m becomes a junction whatever the taps (cut's worthy) or is a tap's
 		mm := b.mem[m]
@@ -876,7 +894,13 @@ func (b *builder) placeTaps() {
 		if entrance[r] {
 			return false
 		}
-		return mm.force || parts[r] < 0 || b.labeled[r] || mm.kind == memVertex && (mm.seg == 0 || mm.seg == len(b.parts[mm.part].xy)-1)
+		if mm.force {
+			return true
+		}
+		if plain(r) {
+			return false
+		}
+		return parts[r] < 0 || b.labeled[r] || mm.kind == memVertex && (mm.seg == 0 || mm.seg == len(b.parts[mm.part].xy)-1)
 	}
 	limit := b.maxLat * (1 - 1e-3) // the lateral's length is checked on the ellipsoid (access): keep clear of it
 	for _, q := range reqs {
