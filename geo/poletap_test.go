@@ -1,0 +1,74 @@
+package geo
+
+import (
+	"errors"
+	"math"
+	"strings"
+	"testing"
+)
+
+// TestLateralTapsAtPole: building B has no pathway end and no entrance; the pole line A
+// (aerial, poles at its vertices, x = -100, 0 and 100 m) passes 12 m from its wall mid-span,
+// and its nearest pole, at (0, 0), is 19.2 m from the footprint's corner. A counted lateral
+// from a pole line leaves it at a pole, down the pole in a riser into a handhole at its foot,
+// never from under the strand between two poles, where nothing can come down (README
+// "Pathway types": a riser pole's turn is made in the handhole at its foot; common practice,
+// no published source, for the tap at the pole). Beyond max_lateral_m from every pole, B is
+// not joined there, and the problem names the pole line and its nearest pole. A duct nearer
+// than the pole, though farther than the strand, is tapped instead.
+func TestLateralTapsAtPole(t *testing.T) {
+	t.Parallel()
+	aerial := func() Pathway {
+		a := pw("A", ml(-100, 0, 0, 0, 100, 0))
+		a.Type, a.SpareDucts, a.DuctMM = TypeAerial, 0, 0
+		return a
+	}
+	poleM := DistanceM(at(15, 12), at(0, 0)) // from B's corner to the pole, on the ellipsoid
+	for _, tc := range []struct {
+		name  string
+		extra []Pathway
+		opt   Options
+		want  [2]float64 // B's tap, x and y in metres
+		latM  float64
+		riser bool
+	}{
+		{"the pole, not mid-span", nil, Options{}, [2]float64{0, 0}, poleM, true},
+		{"a duct nearer than the pole", []Pathway{pw("D", ml(-100, -6, 100, -6))}, Options{}, [2]float64{20, -6}, 18, false},
+		{"a duct farther than the pole", []Pathway{pw("D", ml(-100, -9, 100, -9))}, Options{}, [2]float64{0, 0}, poleM, true},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			c := Campus{Buildings: []Building{box("B", 20, 17, 5)}, Pathways: append([]Pathway{aerial()}, tc.extra...)}
+			n, err := Build(&c, tc.opt)
+			if err != nil {
+				t.Fatal(err)
+			}
+			checkNetwork(t, n)
+			es := n.EntrancesOf("B")
+			if len(es) != 1 || es[0].Via != ViaLateral {
+				t.Fatalf("entrances of B %+v; want one counted lateral", es)
+			}
+			j, _ := n.Junction(es[0].Junction)
+			if d := DistanceM(j.Point, at(tc.want[0], tc.want[1])); d > 0.01 {
+				t.Errorf("B taps at %v (%.2f m off); want %v", j.Point, d, tc.want)
+			}
+			if math.Abs(es[0].LateralM-tc.latM) > 0.02 {
+				t.Errorf("B's lateral %.3f m; want %.3f", es[0].LateralM, tc.latM)
+			}
+			if es[0].PoleRiser != tc.riser {
+				t.Errorf("B's lateral comes down a pole: %v; want %v", es[0].PoleRiser, tc.riser)
+			}
+		})
+	}
+
+	// Beyond max_lateral_m from every pole: not joined, though the strand passes within it.
+	c := Campus{Buildings: []Building{box("B", 20, 17, 5)}, Pathways: []Pathway{aerial()}}
+	_, err := Build(&c, Options{MaxLateralM: 15})
+	if !errors.Is(err, ErrUnreachable) {
+		t.Fatalf("max_lateral_m 15: got %v; want ErrUnreachable", err)
+	}
+	for _, want := range []string{"no pathway within 15 m", "aerial pathway A passes 12.0 m away", "its nearest pole is 19.2 m away"} {
+		if !strings.Contains(err.Error(), want) {
+			t.Errorf("max_lateral_m 15: %q; want it to say %q", err, want)
+		}
+	}
+}
