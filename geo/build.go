@@ -770,7 +770,7 @@ func (b *builder) planAccess() {
 		b.buf = b.segGrid.query(lo, hi, b.buf)
 		best, miss := b.lateralPlace(f, "")
 		if best.seg < 0 || best.d > b.maxLat {
-			b.add(bl.Source, bl.ID, "", problemf(ErrUnreachable, "no pathway within %s m of the footprint (design: max_lateral_m)%s", fmtM(b.maxLat), miss.within(b.maxLat)))
+			b.add(bl.Source, bl.ID, "", problemf(ErrUnreachable, "no pathway within %s m of the footprint (design: max_lateral_m)%s", fmtM(b.maxLat), b.within(miss, b.maxLat)))
 			continue
 		}
 		b.plans[bi] = accessPlan{via: ViaLateral, target: -1}
@@ -1051,13 +1051,24 @@ func (b *builder) chordsPlace(f *footprint, chords [][3]int) place {
 // MaxLateralM.
 type poleMiss struct {
 	pw           string
+	pwi          int // the pathway's index
 	spanM, poleM float64
+	dist         func(vec) float64
 }
 
-// within is m when its pole line passes within r, else no miss.
-func (m poleMiss) within(r float64) poleMiss {
+// within is m when its pole line passes within r, with the nearest of all its poles (those
+// of segments far off too, which nearestPole does not list), else no miss. It is asked only
+// when nothing is within r.
+func (b *builder) within(m poleMiss, r float64) poleMiss {
 	if m.pw == "" || m.spanM > r {
 		return poleMiss{}
+	}
+	for pi := range b.parts {
+		if q := &b.parts[pi]; q.pw == m.pwi {
+			for _, xy := range q.xy {
+				m.poleM = min(m.poleM, m.dist(xy))
+			}
+		}
 	}
 	return m
 }
@@ -1115,16 +1126,7 @@ func (b *builder) nearestPole(ids []int32, dist func(vec) float64, segDist func(
 		}
 	}
 	if missPw >= 0 {
-		// The nearest pole of that line, wherever it is (the segments listed may not reach it).
-		p := b.c.Pathways[missPw]
-		for pi := range b.parts {
-			if q := &b.parts[pi]; q.pw == missPw {
-				for _, xy := range q.xy {
-					missPole = min(missPole, dist(xy))
-				}
-			}
-		}
-		miss = poleMiss{pw: p.ID, spanM: missD, poleM: missPole}
+		miss = poleMiss{pw: b.c.Pathways[missPw].ID, pwi: missPw, spanM: missD, poleM: missPole, dist: dist}
 	}
 	return best, miss
 }
@@ -1217,7 +1219,7 @@ func (b *builder) planEntrance(bi int, bl Building, ents []int) accessPlan {
 			e := b.c.Entrances[ei]
 			b.warns = append(b.warns, warnRec{e.Source, b.entIDs[ei], fmt.Sprintf(
 				"entrance %q of building %q is not within %s m (design: max_lateral_m) of any pathway%s; it is not an entrance",
-				b.entIDs[ei], bl.ID, fmtM(b.maxLat), miss.within(b.maxLat))})
+				b.entIDs[ei], bl.ID, fmtM(b.maxLat), b.within(miss, b.maxLat))})
 			continue
 		}
 		b.doors[bi] = append(b.doors[bi], door{via: ViaEntrance, target: -1, entrance: ei, from: b.c.Entrances[ei].Point, lateral: true})
