@@ -8,9 +8,11 @@ import (
 	"github.com/paulmach/orb"
 
 	"spanwright/geo"
+	"spanwright/media"
 	"spanwright/route/internal/testplan"
 	"spanwright/route/internal/testsite"
 	"spanwright/route/items"
+	"spanwright/route/plan"
 )
 
 // TestLateralFromPoleLine: building C has no pathway end; the pole line P (aerial, poles at
@@ -67,5 +69,20 @@ func TestLateralFromPoleLine(t *testing.T) {
 	}
 	if got, want := lines[items.TapHandholes(1).Item], "1 not priced false"; got != want {
 		t.Errorf("bill: %q %q; want %q", items.TapHandholes(1).Item, got, want)
+	}
+
+	// Priced (an invented 650.00 each), the riser is in the optimizer's objective and the
+	// bill's construction alike, and nothing else moves.
+	path := testplan.DemoBookWith(t, "pole_riser_each: 650.00\n")
+	r2, err := testplan.PullSolveJSON(t, campus, func(p *plan.Plan) { p.Prices = path })
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := r2.ObjectiveCents - r.ObjectiveCents; got != 65000 {
+		t.Errorf("priced riser: the objective moved %d cents; want 65000", got)
+	}
+	c := media.CategoryConstruction
+	if got := r2.Estimate.BOM.CategoryCents(c) - r.Estimate.BOM.CategoryCents(c); got != 65000 {
+		t.Errorf("priced riser: the bill's construction moved %d cents; want 65000", got)
 	}
 }
