@@ -15,7 +15,8 @@ import (
 // "Pathway types": a riser pole's turn is made in the handhole at its foot; common practice,
 // no published source, for the tap at the pole). Beyond max_lateral_m from every pole, B is
 // not joined there, and the problem names the pole line and its nearest pole. A duct nearer
-// than the pole, though farther than the strand, is tapped instead.
+// than the pole, though farther than the strand, is tapped instead. A declared entrance off
+// the pathways is joined at the pole as well.
 func TestLateralTapsAtPole(t *testing.T) {
 	t.Parallel()
 	aerial := func() Pathway {
@@ -58,6 +59,19 @@ func TestLateralTapsAtPole(t *testing.T) {
 				t.Errorf("B's lateral comes down a pole: %v; want %v", es[0].PoleRiser, tc.riser)
 			}
 		})
+	}
+
+	// A declared entrance off the pathways, on B's wall at (20, 12): its counted lateral
+	// leaves the pole line at the pole too, not 12 m below it.
+	c0 := Campus{Buildings: []Building{box("B", 20, 17, 5)}, Pathways: []Pathway{aerial()},
+		Entrances: []Entrance{{Source: Source{File: "t.geojson"}, ID: "E-1", Building: "B", Point: at(20, 12)}}}
+	n0 := build(t, &c0)
+	if es := n0.EntrancesOf("B"); len(es) != 1 || es[0].ID != "E-1" || !es[0].PoleRiser {
+		t.Errorf("declared entrance: %+v; want E-1, its lateral down a pole", es)
+	} else if j, _ := n0.Junction(es[0].Junction); DistanceM(j.Point, at(0, 0)) > 0.01 {
+		t.Errorf("declared entrance: taps at %v; want the pole at (0, 0)", j.Point)
+	} else if want := DistanceM(at(20, 12), at(0, 0)); math.Abs(es[0].LateralM-want) > 0.02 {
+		t.Errorf("declared entrance: lateral %.3f m; want %.3f", es[0].LateralM, want)
 	}
 
 	// Beyond max_lateral_m from every pole: not joined, though the strand passes within it.
