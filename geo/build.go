@@ -50,8 +50,9 @@ const minCellM = 25.0
 //     several, the junction with the most spans, then the lowest ID.
 //  3. Via "footprint" too: where a pathway drawn across the footprint (both ends outside it)
 //     crosses its boundary (wallDoors), every such place an entrance, never a point inside;
-//  4. Via "lateral": the nearest point of any pathway within MaxLateralM of the footprint,
-//     which becomes a junction (a vertex within SnapM of it that marks a place on the line is
+//  4. Via "lateral": the nearest point of any pathway within MaxLateralM of the footprint
+//     (on a pole line, an aerial pathway, its nearest pole: a vertex, or where a pathway or
+//     structure joins it), which becomes a junction (a vertex within SnapM of it that marks a place on the line is
 //     used instead, so short spans are not cut off); the lateral runs from the nearest point of
 //     the footprint boundary. The nearest point of a pathway of the other status (existing,
 //     proposed) within MaxLateralM is an entrance too, by a lateral of its own. A counted
@@ -978,6 +979,10 @@ func (b *builder) footprintEnds(f *footprint) []int {
 // vertices that a file's last digit puts a hair off the line does not swing the place along
 // it (a corner of the footprint 20 m away, projected on a segment of 10 cm whose ends are each
 // 0.08 mm off, moves by 3 cm).
+//
+// A pole line (aerial) offers its poles only (nearestPole), never a place between two: the
+// lateral comes down a pole. The nearer of that pole and the place on the other lines wins;
+// the pole line passed over is returned for the problem when nothing is near enough.
 func (b *builder) lateralPlace(f *footprint, status string) (place, poleMiss) {
 	chords := b.chords[:0] // part, first and last kept vertex; a few per building
 	aerial := b.aerialBuf[:0]
@@ -1132,20 +1137,20 @@ func (b *builder) nearestPole(ids []int32, dist func(vec) float64, segDist func(
 }
 
 // poleJoin reports whether split member m, between two vertices of a pole line, is a pole: a
-// structure, or another line, joins it there.
+// structure, or another line, joins it there (not a declared entrance alone: a way into a
+// building is no place to tap).
 func (b *builder) poleJoin(m int) bool {
-	r := b.find(m)
-	if b.labeled[r] {
-		return true
-	}
 	if b.poleJoins == nil {
 		b.poleJoins = make(map[int]bool)
 		first := make(map[int]int) // root → a part there
 		for i, mm := range b.mem {
+			ri := b.find(i)
+			if mm.kind == memStructure {
+				b.poleJoins[ri] = true
+			}
 			if mm.part < 0 {
 				continue
 			}
-			ri := b.find(i)
 			if q, ok := first[ri]; !ok {
 				first[ri] = mm.part
 			} else if q != mm.part {
@@ -1153,7 +1158,7 @@ func (b *builder) poleJoin(m int) bool {
 			}
 		}
 	}
-	return b.poleJoins[r]
+	return b.poleJoins[b.find(m)]
 }
 
 // chordPlace brings the point at t along the chord of part p from kept vertex k0 to k1 (its

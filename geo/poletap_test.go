@@ -5,6 +5,8 @@ import (
 	"math"
 	"strings"
 	"testing"
+
+	"github.com/paulmach/orb"
 )
 
 // TestLateralTapsAtPole: building B has no pathway end and no entrance; the pole line A
@@ -16,7 +18,8 @@ import (
 // no published source, for the tap at the pole). Beyond max_lateral_m from every pole, B is
 // not joined there, and the problem names the pole line and its nearest pole. A duct nearer
 // than the pole, though farther than the strand, is tapped instead. A declared entrance off
-// the pathways is joined at the pole as well.
+// the pathways is joined at the pole as well, and a pole line branching off A between two of
+// its vertices stands a pole where it joins.
 func TestLateralTapsAtPole(t *testing.T) {
 	t.Parallel()
 	aerial := func() Pathway {
@@ -25,6 +28,8 @@ func TestLateralTapsAtPole(t *testing.T) {
 		return a
 	}
 	poleM := DistanceM(at(15, 12), at(0, 0)) // from B's corner to the pole, on the ellipsoid
+	branch := aerial()                       // a pole line branching off A at (10, 0): a pole there
+	branch.ID, branch.Group, branch.Lines = "A-BR", "A-BR", []orb.LineString{ml(10, 0, 10, -50)}
 	for _, tc := range []struct {
 		name  string
 		extra []Pathway
@@ -36,6 +41,7 @@ func TestLateralTapsAtPole(t *testing.T) {
 		{"the pole, not mid-span", nil, Options{}, [2]float64{0, 0}, poleM, true},
 		{"a duct nearer than the pole", []Pathway{pw("D", ml(-100, -6, 100, -6))}, Options{}, [2]float64{20, -6}, 18, false},
 		{"a duct farther than the pole", []Pathway{pw("D", ml(-100, -9, 100, -9))}, Options{}, [2]float64{0, 0}, poleM, true},
+		{"a branch pole between two vertices", []Pathway{branch}, Options{}, [2]float64{10, 0}, DistanceM(at(15, 12), at(10, 0)), true},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			c := Campus{Buildings: []Building{box("B", 20, 17, 5)}, Pathways: append([]Pathway{aerial()}, tc.extra...)}
