@@ -50,8 +50,9 @@ const minCellM = 25.0
 //     several, the junction with the most spans, then the lowest ID.
 //  3. Via "footprint" too: where a pathway drawn across the footprint (both ends outside it)
 //     crosses its boundary (wallDoors), every such place an entrance, never a point inside;
-//  4. Via "lateral": the nearest point of any pathway within MaxLateralM of the footprint,
-//     which becomes a junction (a vertex within SnapM of it that marks a place on the line is
+//  4. Via "lateral": the nearest point of any pathway within MaxLateralM of the footprint
+//     (on a pole line, an aerial pathway, its nearest pole: a vertex, or where a pathway or
+//     structure joins it), which becomes a junction (a vertex within SnapM of it that marks a place on the line is
 //     used instead, so short spans are not cut off); the lateral runs from the nearest point of
 //     the footprint boundary. The nearest point of a pathway of the other status (existing,
 //     proposed) within MaxLateralM is an entrance too, by a lateral of its own. A counted
@@ -269,8 +270,11 @@ type builder struct {
 	ids     map[int]string    // root → junction ID
 	taps    []tapReq          // counted laterals' taps planAccess found, for placeTaps
 	spanID  []string          // per piece: its span's ID (spanIDs)
-	buf     []int32
-	chords  [][3]int // scratch: lateralPlace's chords
+	// poleJoins holds the roots where two lines meet, as planAccess finds them (poleJoin).
+	poleJoins map[int]bool
+	aerialBuf []int32 // scratch: lateralPlace's segments of pole lines
+	buf       []int32
+	chords    [][3]int // scratch: lateralPlace's chords
 }
 
 func (b *builder) add(src Source, id, prop string, err error) {
@@ -632,23 +636,38 @@ func (b *builder) joinEntrances() {
 	}
 }
 
-// nearest returns the nearest place on any pathway to xy within r: its segment and parameter.
-func (b *builder) nearest(xy vec, r float64) (seg int, t, d float64, ok bool) {
+// nearest returns the nearest place to xy within r where a counted lateral may join a
+// pathway: its segment and parameter; on a pole line, its nearest pole (nearestPole), and
+// the pole line passed over when none is within r.
+func (b *builder) nearest(xy vec, r float64) (seg int, t, d float64, miss poleMiss, ok bool) {
 	lo, hi := around(xy, r)
 	b.buf = b.segGrid.query(lo, hi, b.buf)
 	best := place{seg: -1}
+	aerial := b.aerialBuf[:0]
 	for _, s := range b.buf {
 		sr := b.segs[s]
 		p := &b.parts[sr.part]
+		if b.c.Pathways[p.pw].Type == TypeAerial {
+			aerial = append(aerial, s)
+			continue
+		}
 		tt, d2 := closestOnSeg(xy, p.xy[sr.i], p.xy[sr.i+1])
 		if c := (place{seg: int(s), t: tt, d: math.Sqrt(d2)}); b.better(c, best) {
 			best = c
 		}
 	}
-	if best.seg < 0 || best.d > r {
-		return 0, 0, 0, false
+	b.aerialBuf = aerial
+	pole, miss := b.nearestPole(aerial, xy.dist, func(a, c vec) (float64, float64) {
+		t, d2 := closestOnSeg(xy, a, c)
+		return math.Sqrt(d2), t
+	})
+	if pole.seg >= 0 && b.better(pole, best) {
+		best = pole
 	}
-	return best.seg, best.t, best.d, true
+	if best.seg < 0 || best.d > r {
+		return 0, 0, 0, miss, false
+	}
+	return best.seg, best.t, best.d, miss, true
 }
 
 // place is a point on a pathway segment at distance d (projected metres) from something.
@@ -775,9 +794,9 @@ func (b *builder) planAccess() {
 		}
 		lo, hi := f.lo.sub(vec{b.maxLat, b.maxLat}), f.hi.add(vec{b.maxLat, b.maxLat})
 		b.buf = b.segGrid.query(lo, hi, b.buf)
-		best := b.lateralPlace(f, "")
+		best, miss := b.lateralPlace(f, "")
 		if best.seg < 0 || best.d > b.maxLat {
-			b.unjoin(bi, "no pathway within %s m of the footprint (design: max_lateral_m)", fmtM(b.maxLat))
+			b.unjoin(bi, "no pathway within %s m of the footprint (design: max_lateral_m)%s", fmtM(b.maxLat), b.within(miss, b.maxLat))
 			continue
 		}
 		b.plans[bi] = accessPlan{via: ViaLateral, target: -1}
@@ -791,7 +810,7 @@ func (b *builder) planAccess() {
 		if b.statusOf(best.seg) == StatusProposed {
 			other = StatusExisting
 		}
-		if alt := b.lateralPlace(f, other); alt.seg >= 0 && alt.d <= b.maxLat {
+		if alt, _ := b.lateralPlace(f, other); alt.seg >= 0 && alt.d <= b.maxLat {
 			b.lateralDoor(bi, alt, false)
 		}
 	}
@@ -1009,12 +1028,21 @@ func (b *builder) footprintEnds(f *footprint) []int {
 // vertices that a file's last digit puts a hair off the line does not swing the place along
 // it (a corner of the footprint 20 m away, projected on a segment of 10 cm whose ends are each
 // 0.08 mm off, moves by 3 cm).
-func (b *builder) lateralPlace(f *footprint, status string) place {
+//
+// A pole line (aerial) offers its poles only (nearestPole), never a place between two: the
+// lateral comes down a pole. The nearer of that pole and the place on the other lines wins;
+// the pole line passed over is returned for the problem when nothing is near enough.
+func (b *builder) lateralPlace(f *footprint, status string) (place, poleMiss) {
 	chords := b.chords[:0] // part, first and last kept vertex; a few per building
+	aerial := b.aerialBuf[:0]
 	for _, s := range b.buf {
 		sr := b.segs[s]
 		p := &b.parts[sr.part]
 		if status != "" && b.c.Pathways[p.pw].Status != status {
+			continue
+		}
+		if b.c.Pathways[p.pw].Type == TypeAerial {
+			aerial = append(aerial, s) // a pole line is tapped at a pole only (nearestPole)
 			continue
 		}
 		k, _ := slices.BinarySearch(p.kept, int32(sr.i)+1)
@@ -1022,7 +1050,18 @@ func (b *builder) lateralPlace(f *footprint, status string) place {
 			chords = append(chords, ch)
 		}
 	}
-	b.chords = chords
+	b.chords, b.aerialBuf = chords, aerial
+	pole, miss := b.nearestPole(aerial, f.distTo, f.segDist)
+	best := b.chordsPlace(f, chords)
+	if pole.seg >= 0 && b.better(pole, best) {
+		return pole, miss
+	}
+	return best, miss
+}
+
+// chordsPlace is lateralPlace's place on the chords of lines other than pole lines (seg < 0
+// when there are none).
+func (b *builder) chordsPlace(f *footprint, chords [][3]int) place {
 	nearest, nearestM := place{seg: -1}, math.Inf(1)
 	for _, ch := range chords {
 		p := &b.parts[ch[0]]
@@ -1058,6 +1097,117 @@ func (b *builder) lateralPlace(f *footprint, status string) place {
 		return nearest
 	}
 	return best
+}
+
+// poleMiss is the nearest pole line a counted lateral passed over because it is tapped at a
+// pole only: pathway pw runs spanM from the footprint (or entrance) and its nearest pole is
+// poleM away (pw "" when no pole line was near). It names them when nothing is within
+// MaxLateralM.
+type poleMiss struct {
+	pw           string
+	pwi          int // the pathway's index
+	spanM, poleM float64
+	dist         func(vec) float64
+}
+
+// within is m when its pole line passes within r, with the nearest of all its poles (those
+// of segments far off too, which nearestPole does not list), else no miss. It is asked only
+// when nothing is within r.
+func (b *builder) within(m poleMiss, r float64) poleMiss {
+	if m.pw == "" || m.spanM > r {
+		return poleMiss{}
+	}
+	for pi := range b.parts {
+		if q := &b.parts[pi]; q.pw == m.pwi {
+			for _, xy := range q.xy {
+				m.poleM = min(m.poleM, m.dist(xy))
+			}
+		}
+	}
+	return m
+}
+
+// String says what the miss was, for the "no pathway within" problem; "" when none.
+func (m poleMiss) String() string {
+	if m.pw == "" {
+		return ""
+	}
+	return fmt.Sprintf("; aerial pathway %s passes %.1f m away, but a lateral from a pole line comes down a pole, and its nearest pole is %.1f m away",
+		m.pw, m.spanM, m.poleM)
+}
+
+// nearestPole is the nearest pole of the pole lines (aerial pathways) among segments ids, by
+// dist (seg < 0 when there is none), and the nearest of those lines with its nearest pole.
+// A counted lateral from a pole line leaves it at a pole, never from under the strand between
+// two: the cable comes down the pole in a riser into the handhole at its foot (README,
+// "Pathway types"). A pole stands at every vertex of an aerial pathway (a pole line is drawn
+// pole to pole: the strand runs straight between two poles, so where the line is drawn to
+// turn or not, a vertex is where it is held) and wherever another pathway or a structure
+// joins it between two vertices (poleJoin).
+func (b *builder) nearestPole(ids []int32, dist func(vec) float64, segDist func(a, c vec) (float64, float64)) (place, poleMiss) {
+	best := place{seg: -1}
+	var miss poleMiss
+	missPw, missD, missPole := -1, math.Inf(1), math.Inf(1)
+	for _, s := range ids {
+		sr := b.segs[s]
+		p := &b.parts[sr.part]
+		try := func(c place, xy vec) {
+			c.d = dist(xy)
+			if b.better(c, best) {
+				best = c
+			}
+			if p.pw == missPw && c.d < missPole {
+				missPole = c.d
+			}
+		}
+		if d, _ := segDist(p.xy[sr.i], p.xy[sr.i+1]); d < missD || d == missD && p.pw != missPw && b.c.Pathways[p.pw].ID < b.c.Pathways[missPw].ID {
+			if p.pw != missPw {
+				missPole = math.Inf(1)
+			}
+			missPw, missD = p.pw, d
+		}
+		for _, v := range [2]int{sr.i, sr.i + 1} {
+			if v == len(p.xy)-1 {
+				try(place{seg: p.s0 + v - 1, t: 1}, p.xy[v])
+			} else {
+				try(place{seg: p.s0 + v, t: 0}, p.xy[v])
+			}
+		}
+		for _, m := range b.splits[sr.part] {
+			if mm := b.mem[m]; mm.seg == sr.i && b.poleJoin(m) {
+				try(place{seg: int(s), t: mm.t}, mm.xy)
+			}
+		}
+	}
+	if missPw >= 0 {
+		miss = poleMiss{pw: b.c.Pathways[missPw].ID, pwi: missPw, spanM: missD, poleM: missPole, dist: dist}
+	}
+	return best, miss
+}
+
+// poleJoin reports whether split member m, between two vertices of a pole line, is a pole: a
+// structure, or another line, joins it there (not a declared entrance alone: a way into a
+// building is no place to tap).
+func (b *builder) poleJoin(m int) bool {
+	if b.poleJoins == nil {
+		b.poleJoins = make(map[int]bool)
+		first := make(map[int]int) // root → a part there
+		for i, mm := range b.mem {
+			ri := b.find(i)
+			if mm.kind == memStructure {
+				b.poleJoins[ri] = true
+			}
+			if mm.part < 0 {
+				continue
+			}
+			if q, ok := first[ri]; !ok {
+				first[ri] = mm.part
+			} else if q != mm.part {
+				b.poleJoins[ri] = true
+			}
+		}
+	}
+	return b.poleJoins[b.find(m)]
 }
 
 // chordPlace brings the point at t along the chord of part p from kept vertex k0 to k1 (its
@@ -1118,12 +1268,12 @@ func (b *builder) planEntrance(bi int, bl Building, ents []int) accessPlan {
 			b.doors[bi] = append(b.doors[bi], door{via: ViaEntrance, target: b.entMem[ei], entrance: ei})
 			continue
 		}
-		seg, t, d, ok := b.nearest(b.mem[b.entMem[ei]].xy, b.maxLat)
+		seg, t, d, miss, ok := b.nearest(b.mem[b.entMem[ei]].xy, b.maxLat)
 		if !ok {
 			e := b.c.Entrances[ei]
 			b.warns = append(b.warns, warnRec{e.Source, b.entIDs[ei], fmt.Sprintf(
-				"entrance %q of building %q is not within %s m (design: max_lateral_m) of any pathway; it is not an entrance",
-				b.entIDs[ei], bl.ID, fmtM(b.maxLat))})
+				"entrance %q of building %q is not within %s m (design: max_lateral_m) of any pathway%s; it is not an entrance",
+				b.entIDs[ei], bl.ID, fmtM(b.maxLat), b.within(miss, b.maxLat))})
 			continue
 		}
 		b.doors[bi] = append(b.doors[bi], door{via: ViaEntrance, target: -1, entrance: ei, from: b.c.Entrances[ei].Point, lateral: true})

@@ -30,6 +30,11 @@ type Entry struct {
 	// the wall is penetrated and sleeved where that pathway meets it. A proposed pathway there
 	// needs its own penetration. Set with the network's Meetings.
 	Built bool
+	// PoleRiser says the entry's counted lateral leaves a pole line (Build joins it at a pole,
+	// never between two) where no duct or direct-buried pathway comes down the pole yet: its
+	// cable comes down the pole in a riser of its own into the handhole at the pole's foot.
+	// Set with the network's Meetings.
+	PoleRiser bool
 }
 
 // entryRank orders the ways one junction can be an entry of a building: a declared entrance

@@ -527,6 +527,7 @@ func built(n *Network, at map[string]int) {
 	for i := range n.Entrances {
 		e := &n.Entrances[i]
 		if e.LateralM > 0 {
+			e.PoleRiser = poleRiser(n.Meetings[at[e.Junction]].Spans, span)
 			continue
 		}
 		existing, proposed := false, false
@@ -541,6 +542,22 @@ func built(n *Network, at map[string]int) {
 		}
 		e.Built = existing && !proposed
 	}
+}
+
+// poleRiser reports whether a counted lateral that joins the network where spans meet leaves
+// a pole line at a pole where nothing comes down it yet: an aerial span ends there and no
+// duct or direct-buried pathway does (Entry.PoleRiser).
+func poleRiser(spans []string, span func(string) *Span) bool {
+	aerial := false
+	for _, id := range spans {
+		switch sp := span(id); sp.Type {
+		case TypeAerial:
+			aerial = true
+		case TypeDuct, TypeBuried:
+			return false // a riser pole already: its duct or cable comes down the pole
+		}
+	}
+	return aerial
 }
 
 // through warns about every proposed pathway of outside work (not a tray, not aerial) among

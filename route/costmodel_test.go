@@ -111,7 +111,7 @@ func routeDependent(pb *media.PriceBook, item string, price, rate media.PriceKey
 		return true
 	case media.PriceStructure:
 		return item == "handhole where new pathway joins the network" || item == "handhole where a route turns between pathways" ||
-			item == "handhole along new construction" || item == "handhole where a lateral taps a duct"
+			item == "handhole along new construction" || item == items.TapHandholeItem
 	case media.PriceEntrance, media.PriceFirestop, media.PriceHoleWall:
 		return true
 	case media.PriceCrew:
@@ -464,7 +464,7 @@ func objectiveOf(r *route.Result, prob *optimize.Problem, pb *media.PriceBook, l
 	// with one the constant part of the objective (routing.Routed.ConstantCents).
 	for _, en := range r.Estimate.Construction.Entrances {
 		if en.Single {
-			for _, q := range items.Entrance(pb, r.Plan.Design, en.LateralM, en.Built) {
+			for _, q := range items.Entrance(pb, r.Plan.Design, en.LateralM, en.Built, en.PoleRiser) {
 				c += pb.Cents(q)
 			}
 			for _, q := range items.BidPer(pb, media.BidBases{NewBuriedM: 1}) {

@@ -11,13 +11,14 @@ import (
 	"spanwright/route"
 	"spanwright/route/internal/testplan"
 	"spanwright/route/internal/testsite"
+	"spanwright/route/items"
 	"spanwright/route/plan"
 	"spanwright/route/routing"
 )
 
 // handholeLines are the bill's lines of handholes the plan adds at junctions without a
 // structure, one per reason.
-var handholeLines = []string{"handhole where new pathway joins the network", "handhole where a lateral taps a duct",
+var handholeLines = []string{"handhole where new pathway joins the network", items.TapHandholeItem,
 	"handhole where a route turns between pathways"}
 
 // entrance is a declared entrance of building b at a grid point.

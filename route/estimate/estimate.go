@@ -1624,13 +1624,23 @@ func (r *run) quantities() {
 		for _, en := range con.Entrances {
 			if en.Built == built {
 				at = append(at, fromEntrance(en))
-				q = items.Entrance(p, design, 0, built)
+				q = items.Entrance(p, design, 0, built, false)
 			}
 		}
 		if len(q) > 0 {
 			q[0].Amount = float64(len(at))
 			e.Quantities = append(e.Quantities, one(q[0], at))
 		}
+	}
+	// The risers of the laterals that come down a pole (items.Entrance, items.PoleRisers).
+	var risers []string
+	for _, en := range con.Entrances {
+		if en.PoleRiser && en.LateralM > 0 {
+			risers = append(risers, fromEntrance(en))
+		}
+	}
+	for _, q := range items.PoleRisers(len(risers)) {
+		e.Quantities = append(e.Quantities, one(q, risers))
 	}
 	// The added pull points come from the pulls of the legs that need them.
 	var pulled []string

@@ -1073,7 +1073,7 @@ func tapCampus() string {
 
 // TestLateralTap (lengths within 0.5 m: the pull grid's metres are geodesic): a counted lateral that taps the side of an existing duct gets a handhole
 // at the tap (common practice, no published source: a new duct cannot be joined into the side
-// of one in the ground), billed once per junction as "handhole where a lateral taps a duct"
+// of one in the ground), billed once per junction as items.TapHandholeItem
 // at the book's handhole price, and the pulling plan breaks there: the lateral is a pull of its
 // own, S to the tap, its 90° turn taken inside the handhole (TIA-569 counts bends between pull
 // points, and a pull point ends them), then the tap to A along D. T's lateral ends in the
@@ -1091,11 +1091,11 @@ func TestLateralTap(t *testing.T) {
 	if len(c.TapJunctions) != 1 {
 		t.Fatalf("tap handholes at %q, want one (S's lateral)", c.TapJunctions)
 	}
-	if got := testplan.BOMQty(r.Estimate.BOM, "handhole where a lateral taps a duct"); got != 1 {
+	if got := testplan.BOMQty(r.Estimate.BOM, items.TapHandholeItem); got != 1 {
 		t.Errorf("tap handholes billed: %v, want 1", got)
 	}
 	hh, _ := r.Engine.PriceBook().Price(media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole})
-	if l, ok := testplan.BOMLine(r.Estimate.BOM, "handhole where a lateral taps a duct"); !ok || l.UnitCents != hh {
+	if l, ok := testplan.BOMLine(r.Estimate.BOM, items.TapHandholeItem); !ok || l.UnitCents != hh {
 		t.Errorf("tap handhole line %+v, want the handhole price %d", l, hh)
 	}
 	for _, tc := range []struct {

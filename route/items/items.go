@@ -214,7 +214,10 @@ func RunHandholes(n int) media.Quantity {
 // building_entrance_each when the book has no such price (the dearer, rather than nothing).
 // A book with neither still gets the entry, at the price it leaves out (media.PriceBook.NotPriced):
 // the bill lists it with no price.
-func Entrance(p *media.PriceBook, d plan.Design, lateralM float64, built bool) []media.Quantity {
+//
+// A lateral that leaves a pole line (poleRiser, geo.Entry.PoleRiser) also takes its riser down
+// the pole (PoleRisers).
+func Entrance(p *media.PriceBook, d plan.Design, lateralM float64, built, poleRiser bool) []media.Quantity {
 	firestop, entrance := media.PriceKey{Item: media.PriceFirestop}, media.PriceKey{Item: media.PriceEntrance}
 	var q []media.Quantity
 	if built && (!p.NotPriced(firestop) || p.NotPriced(entrance)) {
@@ -227,15 +230,39 @@ func Entrance(p *media.PriceBook, d plan.Design, lateralM float64, built bool) [
 	if lateralM > 0 {
 		lat := &geo.Span{Type: geo.TypeDuct, LengthM: lateralM}
 		q = append(q, Opening(d, lat, MethodOf(p, d, lat))...)
+		if poleRiser {
+			q = append(q, PoleRisers(1)...)
+		}
 	}
 	return q
 }
 
-// TapHandholes is n handholes built where a counted lateral taps the side of a duct
-// (site.Site.Tap), priced as the other handholes the plan adds; a junction is counted once,
+// PoleRiserItem is the bill's line of PoleRisers.
+const PoleRiserItem = "riser down a pole for a lateral: conduit and guard from the strand into the handhole at its foot"
+
+// PoleRisers is what n counted laterals that leave a pole line take on the pole: the cable
+// comes down it from the strand in a riser conduit with its guard, fastened to the pole, into
+// the handhole at its foot (README, "Pathway types"; the pole owner's attachment rules and
+// NFPA 70 for the conduit where they apply; common practice, no published source, for one
+// riser per lateral), at the optional pole_riser_each, or listed not priced without it
+// (media.PriceBook.NotPriced). The optimizer pays it with the entrance (Entrance), the bill
+// from the entrances used (package estimate).
+func PoleRisers(n int) []media.Quantity {
+	if n <= 0 {
+		return nil
+	}
+	return []media.Quantity{{Category: media.CategoryConstruction, Item: PoleRiserItem,
+		Unit: media.UnitEach, Amount: float64(n), Price: media.PriceKey{Item: media.PricePoleRiser}}}
+}
+
+// TapHandholeItem is the bill's line of TapHandholes.
+const TapHandholeItem = "handhole where a lateral taps a duct or a pole line"
+
+// TapHandholes is n handholes built where a counted lateral taps the side of a duct, or
+// comes down a pole into the handhole at its foot (site.Site.Tap), priced as the other handholes the plan adds; a junction is counted once,
 // under the first of its reasons (routing.Handhole.Purpose).
 func TapHandholes(n int) media.Quantity {
-	return media.Quantity{Category: media.CategoryConstruction, Item: "handhole where a lateral taps a duct",
+	return media.Quantity{Category: media.CategoryConstruction, Item: TapHandholeItem,
 		Unit: media.UnitEach, Amount: float64(n), Price: media.PriceKey{Item: media.PriceStructure, Name: geo.StructureHandhole}}
 }
 

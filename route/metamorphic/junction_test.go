@@ -7,6 +7,7 @@ import (
 	"spanwright/geo"
 	"spanwright/route/internal/campusgen"
 	"spanwright/route/internal/testplan"
+	"spanwright/route/items"
 )
 
 // TestOneHandholePerJunctionGenerated holds, on the generated campuses, the rules of the
@@ -61,7 +62,7 @@ func TestOneHandholePerJunctionGenerated(t *testing.T) {
 			t.Errorf("seed %d: construction lists %q, want each of the handholes %q once", seed, listed, want)
 		}
 		var billed float64
-		for _, item := range []string{"handhole where new pathway joins the network", "handhole where a lateral taps a duct",
+		for _, item := range []string{"handhole where new pathway joins the network", items.TapHandholeItem,
 			"handhole where a route turns between pathways"} {
 			billed += testplan.BOMQty(res.Estimate.BOM, item)
 		}

@@ -18,6 +18,9 @@ import (
 // each): interpolated between the segment's ends in longitude and latitude, so on the line as
 // drawn (to the file's 1e-9°) and adding no metres. A vertex that would come within 1 cm of a segment's end, or within snap_m plus
 // 2 cm of a junction other than its own, is left out: there the drawing says something else.
+// So is every vertex on a pole line (aerial): there a vertex is a pole, where a counted lateral
+// may leave the line (README "Pathway types"), not a point on a straight run; r draws its
+// places all the same, so the other lines get the vertices they got before that rule.
 // It returns the features and the number of vertices drawn.
 func onLine(fs []campusgen.Feature, used map[string]bool, junctions [][2]float64, r *rand.Rand) ([]campusgen.Feature, int) {
 	o := [2]float64{7.1, 46.2} // campusgen's origin
@@ -40,6 +43,7 @@ func onLine(fs []campusgen.Feature, used map[string]bool, junctions [][2]float64
 			continue
 		}
 		l := f.Coords[0]
+		pole := propString(f, "type") == "aerial" // its vertices are drawn (r draws alike) and left out
 		line := [][2]float64{l[0]}
 		for k := 1; k < len(l); k++ {
 			a, b := local(o, l[k-1]), local(o, l[k])
@@ -68,6 +72,9 @@ func onLine(fs []campusgen.Feature, used map[string]bool, junctions [][2]float64
 			slices.Sort(ts)
 			ts = slices.Compact(ts)
 			for _, u := range ts {
+				if pole {
+					break
+				}
 				p, q := l[k-1], l[k]
 				line = append(line, [2]float64{p[0] + u*(q[0]-p[0]), p[1] + u*(q[1]-p[1])})
 				added++

@@ -178,9 +178,12 @@ func noisy(fs []campusgen.Feature, used, keep map[string]bool, r *rand.Rand, atM
 }
 
 // propID is a feature's id property.
-func propID(f *campusgen.Feature) string {
+func propID(f *campusgen.Feature) string { return propString(f, "id") }
+
+// propString is f's string property key, or "".
+func propString(f *campusgen.Feature, key string) string {
 	for _, p := range f.Props {
-		if p.Key == "id" {
+		if p.Key == key {
 			s, _ := p.Value.(string)
 			return s
 		}

@@ -849,7 +849,7 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 	}
 	taps := ""
 	if len(c.TapJunctions) > 0 {
-		taps = fmt.Sprintf(", %d where laterals tap a duct", len(c.TapJunctions))
+		taps = fmt.Sprintf(", %d where laterals tap a duct or a pole line", len(c.TapJunctions))
 	}
 	turns := ""
 	if s.TurnHandholes > 0 {

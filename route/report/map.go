@@ -338,7 +338,7 @@ func buildMap(ctx context.Context, r *route.Result, opt Options, med map[string]
 			out = append(out, "new pathway joins the network there")
 		}
 		for _, en := range tapsAt[id] {
-			out = append(out, "the lateral of "+en+" taps a duct")
+			out = append(out, "the lateral of "+en+" taps a duct or a pole line")
 		}
 		return out
 	}
@@ -758,7 +758,7 @@ func purposeWords(purpose string) string {
 // purposeText is each purpose of a structure to build in words (purposeWords).
 var purposeText = map[string]string{
 	output.PurposeJoin:          "where new pathway joins the network",
-	output.PurposeTap:           "where a lateral taps a duct",
+	output.PurposeTap:           "where a lateral taps a duct or a pole line",
 	output.PurposeTurn:          "where a route turns between pathways",
 	output.PurposeRun:           "along new construction (handhole spacing or bend budget)",
 	output.PurposePull:          "an intermediate pull point",

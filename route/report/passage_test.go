@@ -51,7 +51,7 @@ func TestPlanPassage(t *testing.T) {
 		`<span class="small entrances">entrances A:1 → C:1</span>`,
 		`<span class="small crosses">Passes through buildings B</span>`,
 		`<span class="small turns">Turns between pathways at HH-1, J0002, where a handhole is added</span>`,
-		"> building a route passes through</li>", "> handhole to add (a route turns between pathways, new pathway joins, a lateral taps a duct, along new construction, or a pull point)</li>",
+		"> building a route passes through</li>", "> handhole to add (a route turns between pathways, new pathway joins, a lateral taps a duct or a pole line, along new construction, or a pull point)</li>",
 		"> building entrance</li>", "> entrance a leg uses</li>",
 		"<title>A:1: entrance of A (pathway end at the footprint), used by 2 legs</title>",
 		"<title>B:1: entrance of B (pathway end at the footprint), used by 1 leg</title>",

@@ -998,7 +998,7 @@ func legendOf(r *route.Result, med map[string]mediumInfo, order []string, m mapV
 		lg.Structures = append(lg.Structures, legendItem{Shape: structureShape(t), Class: "st", Label: t})
 	}
 	if len(m.Turns) > 0 {
-		lg.Structures = append(lg.Structures, legendItem{Shape: "square", Class: "st turn", Label: "handhole to add (a route turns between pathways, new pathway joins, a lateral taps a duct, along new construction, or a pull point)"})
+		lg.Structures = append(lg.Structures, legendItem{Shape: "square", Class: "st turn", Label: "handhole to add (a route turns between pathways, new pathway joins, a lateral taps a duct or a pole line, along new construction, or a pull point)"})
 	}
 	if len(m.Keys) > 0 {
 		lg.Structures = append(lg.Structures, legendItem{Shape: "key", Class: "key", Label: "structure number, keyed to the structures table (numbers that would crowd a label are left out)"})

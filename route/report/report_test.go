@@ -198,7 +198,7 @@ func TestPlanContent(t *testing.T) {
 		"maintenance-hole", "handhole", "pull-box",
 		// The demo's laterals that tap a duct (LEC, MUS, RSA) are marked where the plan adds
 		// their handholes, and their pulls run along the lateral.
-		": handhole to add, where the lateral of LEC:1 taps a duct", "lateral of LEC:1",
+		": handhole to add, where the lateral of LEC:1 taps a duct or a pole line", "lateral of LEC:1",
 	} {
 		if !strings.Contains(html, want) {
 			t.Errorf("demo report lacks %q", want)

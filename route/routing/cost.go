@@ -257,11 +257,11 @@ func (m *Model) priceNeeds(s *site.Site, lay *layout, runs []site.NewRun, prepai
 		needs = append(needs, items.KeysOf([]media.Quantity{items.JoinHandholes(1)})...)
 	}
 	for _, en := range lay.entrances {
-		needs = append(needs, items.KeysOf(items.Entrance(m.prices, d, en.entry.LateralM, en.entry.Built))...)
+		needs = append(needs, items.KeysOf(items.Entrance(m.prices, d, en.entry.LateralM, en.entry.Built, en.entry.PoleRiser))...)
 	}
 	for _, b := range slices.Sorted(maps.Keys(lay.endEntry)) {
 		e := lay.endEntry[b]
-		needs = append(needs, items.KeysOf(items.Entrance(m.prices, d, e.LateralM, e.Built))...)
+		needs = append(needs, items.KeysOf(items.Entrance(m.prices, d, e.LateralM, e.Built, e.PoleRiser))...)
 	}
 	return needs
 }
@@ -1070,7 +1070,7 @@ func (m *Model) bidItems(bases media.BidBases) []media.Quantity {
 // work along the lateral. The handhole where the lateral taps a duct is its junction's
 // (layout's charges, prepaidTaps). Its prices are checked by CheckPrices (priceNeeds).
 func (m *Model) entranceCents(e geo.Entry) int64 {
-	work := items.Entrance(m.prices, m.design, e.LateralM, e.Built)
+	work := items.Entrance(m.prices, m.design, e.LateralM, e.Built, e.PoleRiser)
 	return m.cents(work...) + m.bidPer(media.BidBases{NewBuriedM: 1}, e.LateralM)
 }
 

@@ -53,7 +53,7 @@ func TestPrepaidTapHandhole(t *testing.T) {
 	}
 	var entries int64
 	for _, e := range r.Entrances {
-		c := m.entranceCents(geo.Entry{ID: e.Entrance, Access: geo.Access{LateralM: e.LateralM}, Built: e.Built})
+		c := m.entranceCents(geo.Entry{ID: e.Entrance, Access: geo.Access{LateralM: e.LateralM}, Built: e.Built, PoleRiser: e.PoleRiser})
 		entries += c
 	}
 	if hh := m.cents(items.JoinHandholes(1)); r.ConstantCents != entries+hh {

@@ -73,6 +73,8 @@ type EntranceUse struct {
 	LateralM float64 // its counted lateral, built as new construction (items.Entrance)
 	Single   bool    // the building's only entrance
 	Built    bool    // the entrance is there already (geo.Entry.Built): its cables are only firestopped
+	// PoleRiser says its counted lateral comes down a pole in a riser (geo.Entry.PoleRiser).
+	PoleRiser bool
 	// Tap is the junction where the counted lateral taps the side of a duct, with a handhole
 	// built there (site.Site.TapOf); "" when it does not.
 	Tap string
@@ -205,7 +207,7 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 	tapUsers := map[string][]int{} // the junctions of singleTaps, each with the legs it serves
 	for _, e := range r.Entrances {
 		if e.Single {
-			c := m.entranceCents(geo.Entry{ID: e.Entrance, Access: geo.Access{LateralM: e.LateralM}, Built: e.Built}) // its prices checked by problem
+			c := m.entranceCents(geo.Entry{ID: e.Entrance, Access: geo.Access{LateralM: e.LateralM}, Built: e.Built, PoleRiser: e.PoleRiser}) // its prices checked by problem
 			r.ConstantCents += c
 			users := through[[2]string{e.Building, e.Entrance}]
 			shareAmong(r.Legs, c, users)
@@ -601,12 +603,12 @@ func entrancesUsed(s *site.Site, lay *layout, legs []Leg) []EntranceUse {
 		}
 		seen[[2]string{b, id}] = true
 		if e, ok := lay.endEntry[b]; ok && e.ID == id {
-			out = append(out, EntranceUse{Building: b, Entrance: id, LateralM: e.LateralM, Single: true, Built: e.Built, Tap: tapOf(s, e)})
+			out = append(out, EntranceUse{Building: b, Entrance: id, LateralM: e.LateralM, Single: true, Built: e.Built, PoleRiser: e.PoleRiser, Tap: tapOf(s, e)})
 			return
 		}
 		for _, en := range lay.entrances {
 			if en.building == b && en.entry.ID == id {
-				out = append(out, EntranceUse{Building: b, Entrance: id, LateralM: en.entry.LateralM, Built: en.entry.Built, Tap: tapOf(s, en.entry)})
+				out = append(out, EntranceUse{Building: b, Entrance: id, LateralM: en.entry.LateralM, Built: en.entry.Built, PoleRiser: en.entry.PoleRiser, Tap: tapOf(s, en.entry)})
 				return
 			}
 		}

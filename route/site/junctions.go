@@ -112,13 +112,16 @@ func (s *Site) JoinsNetwork(j string) bool {
 // handhole at the tap (common practice, no published source), a pull point like any
 // structure: the lateral is pulled on its own, and its turn is taken inside the handhole.
 // At a structure the lateral ends in it; at a duct's dangling end it carries the duct on.
+// A lateral from a pole line (geo.Build joins it at a pole, never mid-span) comes down the
+// pole in a riser (geo.Entry.PoleRiser) into a handhole at its foot, a dead-end pole too: the same
+// handhole, built and billed as any the plan adds (README, "Pathway types").
 func (s *Site) Tap(j string) bool {
 	m, ok := s.Net.MeetingAt(j)
-	if !ok || m.Structure || m.Degree < 2 {
+	if !ok || m.Structure {
 		return false
 	}
 	for _, id := range m.Spans {
-		if sp, ok := s.Net.Span(id); ok && sp.Type == geo.TypeDuct {
+		if sp, ok := s.Net.Span(id); ok && (sp.Type == geo.TypeDuct && m.Degree >= 2 || sp.Type == geo.TypeAerial) {
 			return true
 		}
 	}
