@@ -711,32 +711,7 @@ func TestPullSidewallLimit(t *testing.T) {
 func TestEntranceTransition(t *testing.T) {
 	t.Parallel()
 	campus := strings.ReplaceAll(testsite.PullCampus(100, 2), `"kind":"building",`, `"kind":"building","riser_m":40,`)
-	book, err := os.ReadFile("../../media/prices-demo.yaml")
-	if err != nil {
-		t.Fatal(err)
-	}
-	// Indoor/outdoor single-mode at 6.26 a metre instead of 3.26, so that over this short route
-	// the two transitions (enclosures, trays and 48 splices) cost less than it.
-	const demoLine = "transition_splice_each: 260.00\n"
-	priced := strings.Replace(string(book), "indoor-outdoor: {12: 2.02, 24: 3.26,", "indoor-outdoor: {12: 2.02, 24: 6.26,", 1)
-	if priced == string(book) || !strings.Contains(priced, demoLine) {
-		t.Fatal("the demo book's os2 indoor-outdoor or transition prices moved")
-	}
-	dir := t.TempDir()
-	if err := os.WriteFile(filepath.Join(dir, "prices.yaml"), []byte(strings.Replace(priced, demoLine, "transition_splice_each: 5.00\n", 1)), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	if err := os.WriteFile(filepath.Join(dir, "none.yaml"), []byte(strings.Replace(priced, demoLine, "", 1)), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	plain, err := testplan.PullSolveJSON(t, campus, func(p *plan.Plan) { p.Dir, p.Prices = dir, "none.yaml" })
-	if err != nil {
-		t.Fatal(err)
-	}
-	tr, err := testplan.PullSolveJSON(t, campus, func(p *plan.Plan) { p.Dir, p.Prices = dir, "prices.yaml" })
-	if err != nil {
-		t.Fatal(err)
-	}
+	plain, tr := transitionPlans(t, campus)
 	_, lp := testplan.LegOf(t, plain, "A-B")
 	_, lt := testplan.LegOf(t, tr, "A-B")
 	if lp.Construction != "indoor-outdoor" || lp.Inside != "" {
@@ -803,30 +778,7 @@ func TestEntranceTransitionOneEnd(t *testing.T) {
 		}
 		campus = strings.Replace(campus, from, `"kind":"building","riser_m":`+riser+`,"id":"`+id+`"`, 1)
 	}
-	book, err := os.ReadFile("../../media/prices-demo.yaml")
-	if err != nil {
-		t.Fatal(err)
-	}
-	const demoLine = "transition_splice_each: 260.00\n"
-	priced := strings.Replace(string(book), "indoor-outdoor: {12: 2.02, 24: 3.26,", "indoor-outdoor: {12: 2.02, 24: 6.26,", 1)
-	if priced == string(book) || !strings.Contains(priced, demoLine) {
-		t.Fatal("the demo book's os2 indoor-outdoor or transition prices moved")
-	}
-	dir := t.TempDir()
-	if err := os.WriteFile(filepath.Join(dir, "prices.yaml"), []byte(strings.Replace(priced, demoLine, "transition_splice_each: 5.00\n", 1)), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	if err := os.WriteFile(filepath.Join(dir, "none.yaml"), []byte(strings.Replace(priced, demoLine, "", 1)), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	plain, err := testplan.PullSolveJSON(t, campus, func(p *plan.Plan) { p.Dir, p.Prices = dir, "none.yaml" })
-	if err != nil {
-		t.Fatal(err)
-	}
-	tr, err := testplan.PullSolveJSON(t, campus, func(p *plan.Plan) { p.Dir, p.Prices = dir, "prices.yaml" })
-	if err != nil {
-		t.Fatal(err)
-	}
+	plain, tr := transitionPlans(t, campus)
 	_, lp := testplan.LegOf(t, plain, "A-B")
 	_, lt := testplan.LegOf(t, tr, "A-B")
 	if lp.Construction != "indoor-outdoor" || lp.Inside != "" {
@@ -1336,4 +1288,37 @@ func TestHoleEntries(t *testing.T) {
 	if !ok || line.Quantity != 1 || r3.Estimate.Construction.HoleWalls != 1 {
 		t.Errorf("buried P into MH-2: line %+v (found %v), want 1 wall (D has spare ducts: no trench beside it)", line, ok)
 	}
+}
+
+// transitionPlans plans campus on the demo book (invented) with indoor/outdoor single-mode at
+// 6.26 a metre instead of 3.26, so that over the pull campus's short routes the transitions
+// (enclosures, trays and splices) cost less than it: plain without an entrance splice
+// enclosure price, tr with a cheap one.
+func transitionPlans(t *testing.T, campus string) (plain, tr *route.Result) {
+	t.Helper()
+	book, err := os.ReadFile("../../media/prices-demo.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	const demoLine = "transition_splice_each: 260.00\n"
+	priced := strings.Replace(string(book), "indoor-outdoor: {12: 2.02, 24: 3.26,", "indoor-outdoor: {12: 2.02, 24: 6.26,", 1)
+	if priced == string(book) || !strings.Contains(priced, demoLine) {
+		t.Fatal("the demo book's os2 indoor-outdoor or transition prices moved")
+	}
+	dir := t.TempDir()
+	if err := os.WriteFile(filepath.Join(dir, "prices.yaml"), []byte(strings.Replace(priced, demoLine, "transition_splice_each: 5.00\n", 1)), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(filepath.Join(dir, "none.yaml"), []byte(strings.Replace(priced, demoLine, "", 1)), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	plain, err = testplan.PullSolveJSON(t, campus, func(p *plan.Plan) { p.Dir, p.Prices = dir, "none.yaml" })
+	if err != nil {
+		t.Fatal(err)
+	}
+	tr, err = testplan.PullSolveJSON(t, campus, func(p *plan.Plan) { p.Dir, p.Prices = dir, "prices.yaml" })
+	if err != nil {
+		t.Fatal(err)
+	}
+	return plain, tr
 }
