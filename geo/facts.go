@@ -642,12 +642,14 @@ func (b *builder) transit(n *Network) {
 		}
 		partsOf[p.pw][1] = q + 1
 	}
-	spansOf := make(map[string][]int) // pathway ID → its duct and buried spans (index)
-	allOf := make(map[string][]int)   // pathway ID → all its spans (index)
+	spansOf := make(map[string][]int)  // pathway ID → its duct and buried spans (index)
+	indoorOf := make(map[string][]int) // pathway ID → its tunnel and tray spans (index), for indoors
 	for i, s := range n.Spans {
-		allOf[s.PathwayID] = append(allOf[s.PathwayID], i)
 		if s.Type == TypeDuct || s.Type == TypeBuried {
 			spansOf[s.PathwayID] = append(spansOf[s.PathwayID], i)
+		}
+		if indoorType(s.Type) {
+			indoorOf[s.PathwayID] = append(indoorOf[s.PathwayID], i)
 		}
 	}
 	type under struct {
@@ -693,7 +695,7 @@ func (b *builder) transit(n *Network) {
 				}
 			}
 			for _, pw := range pws {
-				for _, si := range allOf[b.c.Pathways[pw].ID] {
+				for _, si := range indoorOf[b.c.Pathways[pw].ID] {
 					if s := xyOf(si); !boxesMiss(s.lo, s.hi, f.lo, f.hi) {
 						b.indoors(&n.Spans[si], bl.ID, f, s.xy)
 					}
@@ -747,16 +749,20 @@ func (b *builder) transit(n *Network) {
 	}
 }
 
-// indoors adds to s.Indoors, for a tunnel or tray span, the stretch from each end of s (xy:
+// indoorType reports whether a span of pathway type typ carries its cable inside a building
+// where it runs within the footprint (Span.Indoors): a tunnel or a tray. A duct or
+// direct-buried span drawn into a footprint runs beneath the floor slab, and its cable emerges
+// where the span ends (NFPA 70 770.2, point of entrance: where the cable emerges from an
+// external wall or a concrete floor slab; from memory).
+func indoorType(typ string) bool { return typ == TypeTunnel || typ == TypeTray }
+
+// indoors adds to s.Indoors, for a span of an indoorType, the stretch from each end of s (xy:
 // its line on the local projection) that lies more than SnapM inside footprint f of building
 // id, measured along the line (ellipsoidal, as Span.LengthM) back to where it crosses f's wall
 // (wallCrossing, as cutAtWalls cuts there): the whole span when it crosses none. An end within
-// SnapM of the wall is at the wall, with nothing inside. A duct or direct-buried span drawn
-// into a footprint runs beneath the floor slab, and its cable emerges where the span ends
-// (NFPA 70 770.2, point of entrance: where the cable emerges from an external wall or a
-// concrete floor slab; from memory), so it has no stretch inside.
+// SnapM of the wall is at the wall, with nothing inside.
 func (b *builder) indoors(s *Span, id string, f *footprint, xy []vec) {
-	if (s.Type != TypeTunnel && s.Type != TypeTray) || len(xy) < 2 || len(s.Line) != len(xy) {
+	if !indoorType(s.Type) || len(xy) < 2 || len(s.Line) != len(xy) {
 		return
 	}
 	for _, atTo := range [2]bool{false, true} {
