@@ -659,10 +659,14 @@ func (b *builder) transit(n *Network) {
 		}
 		partsOf[p.pw][1] = q + 1
 	}
-	spansOf := make(map[string][]int) // pathway ID → its spans (index)
+	spansOf := make(map[string][]int)  // pathway ID → its duct and buried spans (index)
+	indoorOf := make(map[string][]int) // pathway ID → its tunnel and tray spans (index), for indoors
 	for i, s := range n.Spans {
 		if s.Type == TypeDuct || s.Type == TypeBuried {
 			spansOf[s.PathwayID] = append(spansOf[s.PathwayID], i)
+		}
+		if indoorType(s.Type) {
+			indoorOf[s.PathwayID] = append(indoorOf[s.PathwayID], i)
 		}
 	}
 	type under struct {
@@ -707,6 +711,13 @@ func (b *builder) transit(n *Network) {
 					t.Interior = append(t.Interior, b.c.Pathways[pw].ID)
 				}
 			}
+			for _, pw := range pws {
+				for _, si := range indoorOf[b.c.Pathways[pw].ID] {
+					if s := xyOf(si); !boxesMiss(s.lo, s.hi, f.lo, f.hi) {
+						b.indoors(&n.Spans[si], bl.ID, f, s.xy)
+					}
+				}
+			}
 			passing := b.through(bl.ID, f, pws, partsOf, b.walled[bi])
 			for _, pw := range passing { // a span passes beneath only where its pathway does
 				for _, si := range spansOf[b.c.Pathways[pw].ID] {
@@ -734,6 +745,17 @@ func (b *builder) transit(n *Network) {
 		n.Transit = append(n.Transit, t)
 	}
 	sort.Slice(n.Transit, func(i, j int) bool { return n.Transit[i].Building < n.Transit[j].Building })
+	for si := range n.Spans {
+		slices.SortFunc(n.Spans[si].Indoors, func(x, y IndoorEnd) int {
+			if x.AtTo != y.AtTo {
+				if y.AtTo {
+					return -1
+				}
+				return 1
+			}
+			return strings.Compare(x.Building, y.Building)
+		})
+	}
 	for si, us := range beneath {
 		slices.SortFunc(us, func(x, y under) int {
 			return cmp.Or(cmp.Compare(x.alongM, y.alongM), strings.Compare(x.building, y.building))
@@ -741,6 +763,45 @@ func (b *builder) transit(n *Network) {
 		for _, u := range us {
 			n.Spans[si].Beneath = append(n.Spans[si].Beneath, u.building)
 		}
+	}
+}
+
+// indoorType reports whether a span of pathway type typ carries its cable inside a building
+// where it runs within the footprint (Span.Indoors): a tunnel or a tray. A duct or
+// direct-buried span drawn into a footprint runs beneath the floor slab, and its cable emerges
+// where the span ends (NFPA 70 770.2, point of entrance: where the cable emerges from an
+// external wall or a concrete floor slab; from memory).
+func indoorType(typ string) bool { return typ == TypeTunnel || typ == TypeTray }
+
+// indoors adds to s.Indoors, for a span of an indoorType, the stretch from each end of s (xy:
+// its line on the local projection) that lies more than SnapM inside footprint f of building
+// id, measured along the line (ellipsoidal, as Span.LengthM) back to where it crosses f's wall
+// (wallCrossing, as cutAtWalls cuts there): the whole span when it crosses none. An end within
+// SnapM of the wall is at the wall, with nothing inside.
+func (b *builder) indoors(s *Span, id string, f *footprint, xy []vec) {
+	if !indoorType(s.Type) || len(xy) < 2 || len(s.Line) != len(xy) {
+		return
+	}
+	for _, atTo := range [2]bool{false, true} {
+		end := xy[0]
+		if atTo {
+			end = xy[len(xy)-1]
+		}
+		if !f.contains(end) {
+			continue
+		}
+		if _, d := f.nearestBoundary(end); d <= b.snap {
+			continue
+		}
+		line := slices.Clone(s.Line) // from the other end to this one
+		if !atTo {
+			slices.Reverse(line)
+		}
+		m := s.LengthM
+		if kept, _, ok := b.wallCrossing(f, line); ok {
+			m = LengthM(line) - LengthM(kept)
+		}
+		s.Indoors = append(s.Indoors, IndoorEnd{Building: id, AtTo: atTo, LengthM: m})
 	}
 }
 

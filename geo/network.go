@@ -67,10 +67,35 @@ type Span struct {
 	// span passes beneath them. A stretch from an end of the span inside a footprint is not
 	// counted (the way in to a room).
 	Beneath []string
+	// Indoors lists, for a tunnel or tray span, each stretch of it from an end more than SnapM
+	// inside a building's footprint back to where the span crosses that building's wall (the
+	// whole span when it never does): a cable along it runs inside the building there, which
+	// NFPA 70 770.48(A) counts from the point of entrance. A duct or buried span has none: its
+	// cable emerges from the floor slab where it ends. Sorted by end (From first), then building.
+	Indoors []IndoorEnd
 	// near holds, for the From and the To end, how many vertices in from that end is the
 	// first vertex that the line simplified within BendToleranceM keeps (bendsDeg); 0 for a
 	// span not made by Build, taken as 1 (AwayFrom).
 	near [2]int
+}
+
+// IndoorEnd is the stretch of a span inside a building's footprint from one of the span's ends
+// (Span.Indoors).
+type IndoorEnd struct {
+	Building string
+	AtTo     bool    // the stretch is at the span's To end, else at its From end
+	LengthM  float64 // ellipsoidal metres from that end to the wall crossing; the span's LengthM when it crosses no wall
+}
+
+// IndoorM is the metres of the span inside building b from its To end (atTo) or its From end
+// back to b's wall (Span.Indoors), and whether that end lies inside b at all.
+func (s *Span) IndoorM(b string, atTo bool) (float64, bool) {
+	for _, in := range s.Indoors {
+		if in.Building == b && in.AtTo == atTo {
+			return in.LengthM, true
+		}
+	}
+	return 0, false
 }
 
 // Access says how a building reaches the network.

@@ -273,9 +273,10 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 	}
 	facts := info.facts
 	facts.RouteM = leg.RouteM
-	// The spans of the route drawn inside an end's building are inside it too.
-	facts.InsideAM += interiorM(s, leg.Link.To, ol)
-	facts.InsideBM += interiorM(s, leg.Link.From, ol)
+	// The spans of the route drawn inside an end's building are inside it too, and so is the
+	// route from that end back to where it crosses the building's wall.
+	facts.InsideAM += interiorM(s, leg.Link.To, ol) + indoorM(s, leg.Link.To, ol, true)
+	facts.InsideBM += interiorM(s, leg.Link.From, ol) + indoorM(s, leg.Link.From, ol, false)
 	for _, b := range leg.Crosses {
 		facts.CrossedInsideM += interiorM(s, b, ol)
 	}
@@ -494,6 +495,44 @@ func interiorM(s *site.Site, b string, ol optimize.Leg) float64 {
 		}
 		if sp := &s.Net.Spans[h.Edge]; slices.Contains(t.Interior, sp.PathwayID) {
 			m += sp.LengthM
+		}
+	}
+	return m
+}
+
+// indoorM is the metres of the route inside building b from one of its ends (first: the end
+// its first hops leave, Link.To's; else the end its last hops reach, Link.From's) back to where
+// it crosses b's wall (geo.Span.Indoors): a tunnel or tray that runs from another building into
+// b, or a declared entrance inside b's footprint, puts the cable inside b from that wall on
+// (NFPA 70 770.48(A) counts unlisted cable from the point of entrance). Spans of pathways drawn
+// inside b are passed over: interiorM counts them whole.
+func indoorM(s *site.Site, b string, ol optimize.Leg, first bool) float64 {
+	var interior []string
+	if t, ok := s.Net.TransitOf(b); ok {
+		interior = t.Interior
+	}
+	m := 0.0
+	for i := range ol.Hops {
+		h := ol.Hops[i]
+		if !first {
+			h = ol.Hops[len(ol.Hops)-1-i]
+		}
+		if h.Edge >= len(s.Net.Spans) {
+			continue // an entrance or turn edge: no length inside
+		}
+		sp := &s.Net.Spans[h.Edge]
+		if slices.Contains(interior, sp.PathwayID) {
+			continue
+		}
+		// The span's end on b's side: where the route enters it from b, or leaves it for b.
+		atTo := h.Forward != first
+		in, ok := sp.IndoorM(b, atTo)
+		if !ok {
+			break
+		}
+		m += in
+		if in < sp.LengthM {
+			break // the wall crossing
 		}
 	}
 	return m
