@@ -86,10 +86,11 @@ func (sv *solver) rebest(d int) (old, nb choice) {
 
 // stayCost is the objective of choice c for demand d against the current state (which must
 // not contain d), as best weighs a choice; math.MaxInt64 when c may not stay (no route, an
-// edge forbidden or without room for its cable) or under the length objective, which weighs
-// routes in metres.
+// edge forbidden or without room for its cable), when it is a diverse demand's single route
+// (best must look for a pair first, and any pair weighs more than one route), or under the
+// length objective, which weighs routes in metres.
 func (sv *solver) stayCost(d int, c choice) int64 {
-	if c.opt < 0 || sv.length {
+	if c.opt < 0 || sv.length || (sv.p.Demands[d].Diverse && len(c.legs) < 2) {
 		return math.MaxInt64
 	}
 	w := sv.weightFor(d, c.opt)
@@ -693,8 +694,12 @@ func (sv *solver) estimate(d int) int64 {
 			cur += we
 		}
 	}
-	nb := sv.bestBelow(d, cur) // a route that saves nothing is not wanted
-	defer sv.endSelf()         // end the in-place view
+	below := cur // a route that saves nothing is not wanted
+	if dm.Diverse && len(c.legs) < 2 {
+		below = math.MaxInt64 // bestBelow with a limit looks for pairs only
+	}
+	nb := sv.bestBelow(d, below)
+	defer sv.endSelf() // end the in-place view
 	if nb.opt < 0 || (dm.Diverse && len(nb.legs) < len(c.legs)) {
 		return 0
 	}

@@ -723,7 +723,9 @@ func (sv *solver) best(d int) choice { return sv.bestBelow(d, math.MaxInt64) }
 // bestBelow is best, for a caller that wants only a choice whose objective (cost objective) is
 // below below: an option whose lower bound reaches it is not searched, and the result is opt
 // −1 when no option is below it. An estimate that asks what a demand would save needs no route
-// that saves nothing.
+// that saves nothing. For a diverse demand a limit means a pair below it: the single route
+// best falls back on when no pair exists is not looked for (it would always weigh less than
+// the pair it is compared with; review 13).
 func (sv *solver) bestBelow(d int, below int64) choice {
 	if sv.invalid[d] != "" {
 		return choice{opt: -1}
@@ -827,7 +829,7 @@ func (sv *solver) bestBelow(d int, below int64) choice {
 				consider(x.opt, legs, 2, w)
 			}
 		}
-		if bestCh.opt >= 0 {
+		if bestCh.opt >= 0 || below != math.MaxInt64 {
 			return done()
 		}
 		for i := range order { // single-path bounds are half the pair bounds
