@@ -93,18 +93,30 @@ func (sv *solver) stayCost(d int, c choice) int64 {
 	if c.opt < 0 || sv.length || (sv.p.Demands[d].Diverse && len(c.legs) < 2) {
 		return math.MaxInt64
 	}
+	if cost, barred := sv.weigh(d, c); barred == 0 {
+		return cost
+	}
+	return math.MaxInt64
+}
+
+// weigh is choice c's objective for demand d against the current state, as best weighs a
+// choice (its option's cents and its edges' weights for d), over the edges d may use now, and
+// how many of its edge uses d may not (forbidden by a move, or without room for its cable).
+// c must hold a route (c.opt >= 0).
+func (sv *solver) weigh(d int, c choice) (cost int64, barred int) {
 	w := sv.weightFor(d, c.opt)
-	cost := sv.optionCents(d, c.opt, len(c.legs))
+	cost = sv.optionCents(d, c.opt, len(c.legs))
 	for _, leg := range c.legs {
 		for _, h := range leg {
 			we, ok := w(int32(h.Edge))
 			if !ok {
-				return math.MaxInt64
+				barred++
+				continue
 			}
 			cost += we
 		}
 	}
-	return cost
+	return cost, barred
 }
 
 // markOwn records choice c of demand d as the cable the last flushed packing holds for d.
@@ -683,18 +695,9 @@ func (sv *solver) estimate(d int) int64 {
 	sv.markOwn(d, c)
 	defer sv.endOwn()
 	dm := &sv.p.Demands[d]
-	w := sv.weightFor(d, c.opt)
-	cur := sv.optionCents(d, c.opt, len(c.legs))
-	for _, leg := range c.legs {
-		for _, h := range leg {
-			we, ok := w(int32(h.Edge))
-			if !ok {
-				we = math.MaxInt64 / 8 // forbidden by the move: leaving it is a must
-			}
-			cur += we
-		}
-	}
-	below := cur // a route that saves nothing is not wanted
+	cur, barred := sv.weigh(d, c)
+	cur += int64(barred) * (math.MaxInt64 / 8) // forbidden by the move: leaving it is a must
+	below := cur                               // a route that saves nothing is not wanted
 	if dm.Diverse && len(c.legs) < 2 {
 		below = math.MaxInt64 // bestBelow with a limit looks for pairs only
 	}
@@ -703,14 +706,7 @@ func (sv *solver) estimate(d int) int64 {
 	if nb.opt < 0 || (dm.Diverse && len(nb.legs) < len(c.legs)) {
 		return 0
 	}
-	nw := sv.weightFor(d, nb.opt)
-	nc := sv.optionCents(d, nb.opt, len(nb.legs))
-	for _, leg := range nb.legs {
-		for _, h := range leg {
-			we, _ := nw(int32(h.Edge))
-			nc += we
-		}
-	}
+	nc, _ := sv.weigh(d, nb)
 	return max(0, cur-nc)
 }
 
