@@ -3,8 +3,6 @@ package route_test
 import (
 	"fmt"
 	"math"
-	"os"
-	"path/filepath"
 	"strings"
 	"testing"
 
@@ -41,22 +39,7 @@ func TestTunnelIntoBuildingCountsInside(t *testing.T) {
 		f := []string{building("A", "mc", 0, 20), building("B", "", 200, 300), testsite.Pathway("T", "tunnel", 20, 25, endX, 25)}
 		return `{"type":"FeatureCollection","features":[` + strings.Join(f, ",") + `]}`
 	}
-	book, err := os.ReadFile("../media/prices-demo.yaml")
-	if err != nil {
-		t.Fatal(err)
-	}
-	const demoLine = "transition_splice_each: 260.00\n"
-	priced := strings.Replace(string(book), "indoor-outdoor: {12: 2.02, 24: 3.26,", "indoor-outdoor: {12: 2.02, 24: 6.26,", 1)
-	if priced == string(book) || !strings.Contains(priced, demoLine) {
-		t.Fatal("the demo book's os2 indoor-outdoor or transition prices moved")
-	}
-	dir := t.TempDir()
-	for name, text := range map[string]string{"cheap.yaml": strings.Replace(priced, demoLine, "transition_splice_each: 5.00\n", 1),
-		"none.yaml": strings.Replace(priced, demoLine, "", 1)} {
-		if err := os.WriteFile(filepath.Join(dir, name), []byte(text), 0o644); err != nil {
-			t.Fatal(err)
-		}
-	}
+	dir := testplan.TransitionBooks(t)
 	inM := geo.DistanceM(orb.Point(testsite.Point(200, 25)), orb.Point(testsite.Point(290, 25)))
 
 	into, err := testplan.PullSolveJSON(t, campus(290), func(p *plan.Plan) { p.Dir, p.Prices = dir, "cheap.yaml" })

@@ -1296,27 +1296,13 @@ func TestHoleEntries(t *testing.T) {
 // enclosure price, tr with a cheap one.
 func transitionPlans(t *testing.T, campus string) (plain, tr *route.Result) {
 	t.Helper()
-	book, err := os.ReadFile("../../media/prices-demo.yaml")
-	if err != nil {
-		t.Fatal(err)
-	}
-	const demoLine = "transition_splice_each: 260.00\n"
-	priced := strings.Replace(string(book), "indoor-outdoor: {12: 2.02, 24: 3.26,", "indoor-outdoor: {12: 2.02, 24: 6.26,", 1)
-	if priced == string(book) || !strings.Contains(priced, demoLine) {
-		t.Fatal("the demo book's os2 indoor-outdoor or transition prices moved")
-	}
-	dir := t.TempDir()
-	if err := os.WriteFile(filepath.Join(dir, "prices.yaml"), []byte(strings.Replace(priced, demoLine, "transition_splice_each: 5.00\n", 1)), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	if err := os.WriteFile(filepath.Join(dir, "none.yaml"), []byte(strings.Replace(priced, demoLine, "", 1)), 0o644); err != nil {
-		t.Fatal(err)
-	}
+	dir := testplan.TransitionBooks(t)
+	var err error
 	plain, err = testplan.PullSolveJSON(t, campus, func(p *plan.Plan) { p.Dir, p.Prices = dir, "none.yaml" })
 	if err != nil {
 		t.Fatal(err)
 	}
-	tr, err = testplan.PullSolveJSON(t, campus, func(p *plan.Plan) { p.Dir, p.Prices = dir, "prices.yaml" })
+	tr, err = testplan.PullSolveJSON(t, campus, func(p *plan.Plan) { p.Dir, p.Prices = dir, "cheap.yaml" })
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -238,6 +238,33 @@ func DemoBookWith(tb testing.TB, extra string) string {
 	return path
 }
 
+// TransitionBooks writes two edits of the demo price book (invented prices) into a temporary
+// folder of tb and returns it: indoor/outdoor single-mode at 6.26 a metre instead of 3.26, so
+// that over short routes entrance transitions (enclosures, trays and splices) cost less than
+// it, as "cheap.yaml" with the entrance splice enclosure at 5.00 and as "none.yaml" without
+// its price.
+func TransitionBooks(tb testing.TB) string {
+	tb.Helper()
+	_, here, _, _ := runtime.Caller(0)
+	book, err := os.ReadFile(filepath.Join(filepath.Dir(here), "..", "..", "..", "media", "prices-demo.yaml"))
+	if err != nil {
+		tb.Fatal(err)
+	}
+	const demoLine = "transition_splice_each: 260.00\n"
+	priced := strings.Replace(string(book), "indoor-outdoor: {12: 2.02, 24: 3.26,", "indoor-outdoor: {12: 2.02, 24: 6.26,", 1)
+	if priced == string(book) || !strings.Contains(priced, demoLine) {
+		tb.Fatal("the demo book's os2 indoor-outdoor or transition prices moved")
+	}
+	dir := tb.TempDir()
+	for name, text := range map[string]string{"cheap.yaml": strings.Replace(priced, demoLine, "transition_splice_each: 5.00\n", 1),
+		"none.yaml": strings.Replace(priced, demoLine, "", 1)} {
+		if err := os.WriteFile(filepath.Join(dir, name), []byte(text), 0o644); err != nil {
+			tb.Fatal(err)
+		}
+	}
+	return dir
+}
+
 // DemoDesign plans the demo campus and plan with its design edited by edit.
 func DemoDesign(tb testing.TB, edit func(d *plan.Design)) *route.Result {
 	tb.Helper()
