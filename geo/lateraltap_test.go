@@ -118,24 +118,15 @@ func TestTapMovesToJunction(t *testing.T) {
 				c.Buildings[0] = box("B", 0, 19, 1)
 			}
 			tc.extra(&c)
-			n, err := Build(&c, tc.opt)
-			if err != nil {
-				t.Fatal(err)
-			}
-			checkNetwork(t, n)
-			es := n.EntrancesOf("B")
-			if len(es) != 1 || es[0].Via != ViaLateral {
-				t.Fatalf("entrances of B %+v; want one counted lateral", es)
-			}
-			j, _ := n.Junction(es[0].Junction)
+			n, e, j := buildOneLateral(t, &c, tc.opt)
 			if DistanceM(j.Point, tc.want) > 0.01 {
 				t.Errorf("B taps at %v (%.2f m off); want %v", j.Point, DistanceM(j.Point, tc.want), tc.want)
 			}
-			if math.Abs(es[0].LateralM-tc.latM) > 0.01 {
-				t.Errorf("B's lateral %.3f m; want %.3f, from its wall to the tap", es[0].LateralM, tc.latM)
+			if math.Abs(e.LateralM-tc.latM) > 0.01 {
+				t.Errorf("B's lateral %.3f m; want %.3f, from its wall to the tap", e.LateralM, tc.latM)
 			}
-			if k := n.EntrancesOf("K"); len(k) == 1 && k[0].Via == ViaLateral && k[0].Junction != es[0].Junction {
-				t.Errorf("K taps at %s, B at %s; want one junction", k[0].Junction, es[0].Junction)
+			if k := n.EntrancesOf("K"); len(k) == 1 && k[0].Via == ViaLateral && k[0].Junction != e.Junction {
+				t.Errorf("K taps at %s, B at %s; want one junction", k[0].Junction, e.Junction)
 			}
 			// Reordering the features changes nothing.
 			slices.Reverse(c.Buildings)
@@ -149,4 +140,21 @@ func TestTapMovesToJunction(t *testing.T) {
 			}
 		})
 	}
+}
+
+// buildOneLateral builds c with opt and returns the network, building B's only entrance, which
+// must be a counted lateral, and the junction it taps.
+func buildOneLateral(t *testing.T, c *Campus, opt Options) (*Network, Entry, Junction) {
+	t.Helper()
+	n, err := Build(c, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	checkNetwork(t, n)
+	es := n.EntrancesOf("B")
+	if len(es) != 1 || es[0].Via != ViaLateral {
+		t.Fatalf("entrances of B %+v; want one counted lateral", es)
+	}
+	j, _ := n.Junction(es[0].Junction)
+	return n, es[0], j
 }

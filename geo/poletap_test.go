@@ -45,24 +45,15 @@ func TestLateralTapsAtPole(t *testing.T) {
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			c := Campus{Buildings: []Building{box("B", 20, 17, 5)}, Pathways: append([]Pathway{aerial()}, tc.extra...)}
-			n, err := Build(&c, tc.opt)
-			if err != nil {
-				t.Fatal(err)
-			}
-			checkNetwork(t, n)
-			es := n.EntrancesOf("B")
-			if len(es) != 1 || es[0].Via != ViaLateral {
-				t.Fatalf("entrances of B %+v; want one counted lateral", es)
-			}
-			j, _ := n.Junction(es[0].Junction)
+			_, e, j := buildOneLateral(t, &c, tc.opt)
 			if d := DistanceM(j.Point, at(tc.want[0], tc.want[1])); d > 0.01 {
 				t.Errorf("B taps at %v (%.2f m off); want %v", j.Point, d, tc.want)
 			}
-			if math.Abs(es[0].LateralM-tc.latM) > 0.02 {
-				t.Errorf("B's lateral %.3f m; want %.3f", es[0].LateralM, tc.latM)
+			if math.Abs(e.LateralM-tc.latM) > 0.02 {
+				t.Errorf("B's lateral %.3f m; want %.3f", e.LateralM, tc.latM)
 			}
-			if es[0].PoleRiser != tc.riser {
-				t.Errorf("B's lateral comes down a pole: %v; want %v", es[0].PoleRiser, tc.riser)
+			if e.PoleRiser != tc.riser {
+				t.Errorf("B's lateral comes down a pole: %v; want %v", e.PoleRiser, tc.riser)
 			}
 		})
 	}
