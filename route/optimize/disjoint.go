@@ -1,5 +1,7 @@
 package optimize
 
+import "math"
+
 // Diverse pairs: two paths from s to t sharing no edge and no interior node, of least total
 // weight, by Suurballe's algorithm (J. W. Suurballe, "Disjoint paths in a network", Networks 4,
 // 1974; Suurballe and Tarjan, "A quick method for finding shortest pairs of disjoint paths",
@@ -72,8 +74,11 @@ type pairResult struct {
 	ok     bool
 	legs   [2][]Hop
 	weight int64 // total weight of both legs
-	// When !ok and found1, P1 exists and cut names the single point of failure.
+	// When !ok and found1, P1 exists and cut names the single point of failure, unless over.
 	found1 bool
+	// over: the search stopped because every pair weighs at least the caller's below
+	// (ok false, no cut).
+	over   bool
 	single []Hop
 	cut    SinglePoint
 }
@@ -82,13 +87,21 @@ type pairResult struct {
 // h, when non-nil, is a consistent lower bound of the weight to t: the searches then run on the
 // reduced weights w(u,v) − h(u) + h(v), which changes every s–t path by the same constant and
 // so leaves the optimal pair unchanged, while steering both searches towards t (A*).
-func disjointPair(ps *pairScratch, s, t int, w func(e int32) (int64, bool), h heuristic[int64]) pairResult {
+//
+// A caller that wants only a pair weighing less than below (math.MaxInt64: any pair) gets
+// over instead of a pair once both searches show that none can: each leg weighs at least the
+// shortest path, so the pair at least twice it, and in Suurballe's residual search the pair
+// weighs 2·d(t) + d'(x) at least through a state x settled at reduced distance d'(x), since
+// the reduced weights are non-negative (in true weights, plus 2·h(s): both legs are counted
+// from h(s) on the A* weights).
+func disjointPair(ps *pairScratch, s, t int, w func(e int32) (int64, bool), h heuristic[int64], below int64) pairResult {
 	net := ps.net
 	var res pairResult
 	if h == nil {
 		h = func(int32) (int64, bool) { return 0, true }
 	}
-	if _, ok := h(int32(s)); !ok {
+	hs, ok := h(int32(s))
+	if !ok {
 		return res
 	}
 	rw := func(e, from, to int32) (int64, bool) {
@@ -110,6 +123,13 @@ func disjointPair(ps *pairScratch, s, t int, w func(e int32) (int64, bool), h he
 	// Suurballe potentials: distances of step 2, capped at d(t) for states settled later or
 	// never, which keeps every reduced weight non-negative.
 	dT := ps.dist[inState(int32(t))]
+	limit := int64(math.MaxInt64) // the reduced distance the residual search need not reach
+	if below < math.MaxInt64/4 {
+		if limit = below - 2*dT - 2*hs; limit <= 0 {
+			res.found1, res.over = true, true
+			return res
+		}
+	}
 	ps.potStamp++
 	if ps.potStamp == 0 {
 		clear(ps.potMark)
@@ -123,7 +143,12 @@ func disjointPair(ps *pairScratch, s, t int, w func(e int32) (int64, bool), h he
 	ps.markP1(s, p1)
 
 	// Step 3: residual search on reduced weights.
-	if !ps.residual(int32(s), int32(t), rw, dT) {
+	if found, over := ps.residual(int32(s), int32(t), rw, dT, limit); !found {
+		if over {
+			res.over = true
+			ps.unmarkP1(p1)
+			return res
+		}
 		res.cut = ps.cutOnP1(s, p1)
 		ps.unmarkP1(p1)
 		return res
@@ -323,8 +348,8 @@ func (ps *pairScratch) unmarkP1(p1 []Hop) {
 }
 
 // residual searches for P2 from out(s) to in(t) in the residual network of P1, on reduced
-// weights.
-func (ps *pairScratch) residual(s, t int32, w func(e, from, to int32) (int64, bool), dT int64) bool {
+// weights. It stops with over when the next state to settle lies at limit or beyond.
+func (ps *pairScratch) residual(s, t int32, w func(e, from, to int32) (int64, bool), dT, limit int64) (found, over bool) {
 	st := ps.begin()
 	net := ps.net
 	src, goal := outState(s), inState(t)
@@ -343,9 +368,12 @@ func (ps *pairScratch) residual(s, t int32, w func(e, from, to int32) (int64, bo
 		if ps.settled[x] == st {
 			continue
 		}
+		if ps.dist[x] >= limit {
+			return false, true
+		}
 		ps.settled[x] = st
 		if x == goal {
-			return true
+			return true, false
 		}
 		v := x / 2
 		dx := ps.dist[x]
@@ -376,7 +404,7 @@ func (ps *pairScratch) residual(s, t int32, w func(e, from, to int32) (int64, bo
 			ps.relax(x, y, a.edge, dx+red(x, y, we), st)
 		}
 	}
-	return false
+	return false, false
 }
 
 // cutOnP1 returns the arc by which P1 leaves the states the residual search reached.

@@ -2,6 +2,7 @@ package optimize
 
 import (
 	"fmt"
+	"math"
 	"slices"
 	"strings"
 )
@@ -285,7 +286,7 @@ func (sv *solver) singlePoint(d, o int) (*SinglePoint, string) {
 	s, t := sv.from[d], sv.to[d]
 	base := sv.profBase[sv.optProf[d][o]]
 	w := func(e int32) (int64, bool) { return base[e], base[e] >= 0 }
-	res := disjointPair(sv.ps, s, t, w, nil)
+	res := disjointPair(sv.ps, s, t, w, nil, math.MaxInt64)
 	if !res.ok {
 		if !res.found1 {
 			return nil, "no route for a diverse pair"

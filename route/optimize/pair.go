@@ -114,7 +114,7 @@ func (sv *solver) noPair(d, c int) bool {
 	if sv.pairless[k] == 0 {
 		base := sv.lenBase[c]
 		sv.pairless[k] = 1
-		if !disjointPair(sv.ps, sv.from[d], sv.to[d], func(e int32) (int64, bool) { return base[e], base[e] >= 0 }, nil).ok {
+		if !disjointPair(sv.ps, sv.from[d], sv.to[d], func(e int32) (int64, bool) { return base[e], base[e] >= 0 }, nil, math.MaxInt64).ok {
 			sv.pairless[k] = 2
 		}
 	}
@@ -180,7 +180,7 @@ func (sv *solver) groupPair(s, t int, wt func(e int32) (int64, bool), h heuristi
 		return wt(e)
 	}
 	sv.block(nil)
-	res := disjointPair(sv.ps, s, t, blocked, h)
+	res := disjointPair(sv.ps, s, t, blocked, h, below)
 	if !res.ok || res.weight >= below {
 		return [2][]Hop{}, false
 	}
@@ -227,7 +227,7 @@ func (sv *solver) groupPair(s, t int, wt func(e int32) (int64, bool), h heuristi
 				}
 			}
 			sv.block(bl)
-			r := disjointPair(sv.ps, s, t, blocked, h)
+			r := disjointPair(sv.ps, s, t, blocked, h, math.MaxInt64)
 			tries++
 			if !r.ok {
 				continue
