@@ -369,3 +369,39 @@ func TestLegConstruction(t *testing.T) {
 		t.Errorf("route's shares: %+v", r.Cost)
 	}
 }
+
+// TestPairBelow checks disjointPair's early stop against its full search on small random
+// multigraphs, with and without an A* heuristic (the exact distances to t, which are
+// consistent): asked for a pair below the optimum's weight + 1 it returns the optimal pair's
+// weight (Suurballe 1974: the pair found is optimal), asked for one below the optimum itself it
+// returns none and says over, never a cut.
+func TestPairBelow(t *testing.T) {
+	t.Parallel()
+	r := rand.New(rand.NewPCG(11, 3))
+	checked := 0
+	for c := 0; c < 400; c++ {
+		n, edges := randomGraph(r, false)
+		s, tt := 0, n-1
+		sv := newSolver(unitProblem(n, edges, s, tt), Settings{})
+		w := func(e int32) (int64, bool) { return sv.net.lenMM[e], true }
+		full := disjointPair(sv.ps, s, tt, w, nil, math.MaxInt64)
+		if !full.ok {
+			continue
+		}
+		checked++
+		lt := sv.lenTreeOf(tt, 0)
+		for _, h := range []heuristic[int64]{nil, treeH(lt)} {
+			got := disjointPair(sv.ps, s, tt, w, h, full.weight+1)
+			if !got.ok || got.weight != full.weight {
+				t.Fatalf("case %d (h %v): below the optimum + 1 gave ok %v weight %d, the full search %d", c, h != nil, got.ok, got.weight, full.weight)
+			}
+			got = disjointPair(sv.ps, s, tt, w, h, full.weight)
+			if got.ok || !got.over || got.cut != (SinglePoint{}) {
+				t.Fatalf("case %d (h %v): below the optimum gave ok %v over %v cut %+v, want none and over", c, h != nil, got.ok, got.over, got.cut)
+			}
+		}
+	}
+	if checked < 100 {
+		t.Fatalf("only %d cases had a pair", checked)
+	}
+}
