@@ -64,3 +64,39 @@ func TestNoDiversePair(t *testing.T) {
 		})
 	}
 }
+
+// TestNoDiversePairEveryOption: where the demand's options may use different edges, the point
+// named is one every route of every option passes, and check (NoDiversePair) and Solve name the
+// same one whichever option Solve routes (tester 11 F6: check named an entrance only the first
+// medium had to use, plan a junction). Building 0 has two entrances, 0-1 and 0-2, both reaching
+// junction 3, which two parallel ducts join to the hub 4; the first, dearer option may not use
+// the entrance 0-1, so for it every route also uses the other entrance, and for both every route
+// passes junction 3 (a node every route passes: Bhandari, Survivable Networks, 1999, ch. 3).
+func TestNoDiversePairEveryOption(t *testing.T) {
+	edges := []Edge{
+		{ID: "entrance-1", From: 0, To: 1, LengthM: 10, Flags: 2}, {ID: "entrance-2", From: 0, To: 2, LengthM: 10},
+		{ID: "lateral-1", From: 1, To: 3, LengthM: 40}, {ID: "lateral-2", From: 2, To: 3, LengthM: 40},
+		{ID: "duct-a", From: 3, To: 4, LengthM: 200}, {ID: "duct-b", From: 3, To: 4, LengthM: 200},
+	}
+	opts := []Option{{Name: "os2 plain", CablePerMCents: 300, MaxRouteM: math.Inf(1), ExcludeFlags: 2},
+		{Name: "os2 spliced", CablePerMCents: 200, MaxRouteM: math.Inf(1)}}
+	want := SinglePoint{Kind: PointNode, Index: 3, Separates: true}
+	for _, ends := range [][2]int{{0, 4}, {4, 0}} {
+		p := &Problem{Nodes: 5, Edges: edges, Demands: []Demand{
+			{ID: "diverse", Source: ends[0], Target: ends[1], Diverse: true, Options: opts}}}
+		got, err := NoDiversePair(p)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if sp, ok := got[0]; !ok || sp != want {
+			t.Errorf("ends %v: NoDiversePair names %+v (%v), want junction 3 %+v", ends, sp, ok, want)
+		}
+		sol, err := Solve(p, Settings{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if r := sol.Routes[0]; r.SinglePoint == nil || *r.SinglePoint != want {
+			t.Errorf("ends %v: Solve names %+v, want %+v", ends, r.SinglePoint, want)
+		}
+	}
+}

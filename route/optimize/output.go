@@ -283,9 +283,32 @@ func (sv *solver) reason(d int) (string, []OptionFailure) {
 
 // singlePoint explains why diverse demand d got one leg, for its option o.
 func (sv *solver) singlePoint(d, o int) (*SinglePoint, string) {
-	s, t := sv.from[d], sv.to[d]
+	if sp, note := sv.singlePointOn(d, sv.anyOption(d)); sp != nil && sp.Separates {
+		return sp, note // true of every option: the same words whichever is routed (NoDiversePair)
+	}
 	base := sv.profBase[sv.optProf[d][o]]
-	w := func(e int32) (int64, bool) { return base[e], base[e] >= 0 }
+	return sv.singlePointOn(d, func(e int32) (int64, bool) { return base[e], base[e] >= 0 })
+}
+
+// anyOption weighs an edge that some option of demand d may use at the least of their base
+// weights, and refuses one that none may: a point every route passes on those edges is one
+// every route of every option passes.
+func (sv *solver) anyOption(d int) func(e int32) (int64, bool) {
+	profs := sv.optProf[d]
+	return func(e int32) (int64, bool) {
+		w := int64(-1)
+		for _, pi := range profs {
+			if b := sv.profBase[pi][e]; b >= 0 && (w < 0 || b < w) {
+				w = b
+			}
+		}
+		return w, w >= 0
+	}
+}
+
+// singlePointOn is singlePoint on the edges w allows.
+func (sv *solver) singlePointOn(d int, w func(e int32) (int64, bool)) (*SinglePoint, string) {
+	s, t := sv.from[d], sv.to[d]
 	res := disjointPair(sv.ps, s, t, w, nil, math.MaxInt64)
 	if !res.ok {
 		if !res.found1 {
