@@ -59,7 +59,11 @@ func pathEval(net *Network, hops []Hop, w func(e int32) (int64, bool)) (cost, le
 // too long) and pd (the shortest path, within the limit). It follows Jüttner et al. 2001.
 // hCost and hLen are consistent lower bounds of cost and length to t (-1: cannot reach t);
 // hCost + λ·hLen is then a consistent heuristic for cost + λ·length, so each step is an A*.
-func larac(net *Network, sc *rcspScratch, s, t int, limitMM int64, w func(e int32) (int64, bool), hCost, hLen []int64, pc, pd []Hop) []Hop {
+// A caller that wants only a path of cost at most most gets nil once the Lagrangian bound
+// shows none within the limit can be: the path r cheapest under cost + λ·length bounds every
+// path p within it, cost(p) ≥ cost(p) + λ(len(p) − limit) ≥ cost(r) + λ(len(r) − limit)
+// (Jüttner et al. 2001, after Handler and Zang 1980).
+func larac(net *Network, sc *rcspScratch, s, t int, limitMM int64, w func(e int32) (int64, bool), hCost, hLen []int64, pc, pd []Hop, most int64) []Hop {
 	cc, dc := pathEval(net, pc, w)
 	cd, dd := pathEval(net, pd, w)
 	for iter := 0; iter < 40 && dc > dd && cd > cc && !sc.stop.stop(); iter++ {
@@ -76,6 +80,9 @@ func larac(net *Network, sc *rcspScratch, s, t int, limitMM int64, w func(e int3
 		}
 		r := sc.fs.pathTo(t)
 		cr, dr := pathEval(net, r, w)
+		if lb := float64(cr) + lambda*(float64(dr)-float64(limitMM)); most < math.MaxInt64 && lb > float64(most)+1e-9*math.Max(1, math.Abs(lb)) {
+			return nil
+		}
 		lr := float64(cr) + lambda*float64(dr)
 		lpc := float64(cc) + lambda*float64(dc)
 		if lr >= lpc-1e-9*math.Max(1, math.Abs(lpc)) {

@@ -71,7 +71,7 @@ func solveRCSP(t *testing.T, c rcspCase, s, tt int, limitMM int64) (exact, larac
 	sr.run(s, tt, lw, treeH(tl))
 	pd := sr.pathTo(tt)
 	rc := newRCSPScratch(net)
-	pl := larac(net, rc, s, tt, limitMM, w, tc.dist, tl.dist, pc, pd)
+	pl := larac(net, rc, s, tt, limitMM, w, tc.dist, tl.dist, pc, pd, math.MaxInt64)
 	laracCost, ll := pathEval(net, pl, w)
 	if ll > limitMM {
 		t.Fatalf("LARAC path of %d mm exceeds the limit %d mm", ll, limitMM)
@@ -179,5 +179,61 @@ func TestTreeMatchesGonumDijkstra(t *testing.T) {
 				t.Fatalf("case %d node %d: flat Dijkstra %v, gonum %v", i, v, got, want)
 			}
 		}
+	}
+}
+
+// TestSearchesAtMost checks the capped searches against the uncapped ones on small random
+// multigraphs: an A* search capped at the cheapest path's cost finds the same path (Dijkstra
+// and A* with a consistent bound settle in key order: Hart, Nilsson and Raphael 1968), capped
+// one below it finds none; LARAC capped below the reach-constrained optimum (brute force over
+// every simple path) returns nil or a path no cheaper than it, never a wrong "none" for a cap
+// at or above the optimum (its Lagrangian bound, Jüttner et al. 2001).
+func TestSearchesAtMost(t *testing.T) {
+	t.Parallel()
+	r := rand.New(rand.NewPCG(5, 9))
+	checked := 0
+	for i := 0; i < 400; i++ {
+		c := randomRCSP(r, true)
+		s, tt := 0, c.n-1
+		if !connected(c.n, c.edges, s, tt, nil) {
+			continue
+		}
+		net := NewNetwork(c.n, c.edges)
+		w := func(e int32) (int64, bool) { return c.cost[e], true }
+		lw := func(e int32) (int64, bool) { return net.lenMM[e], true }
+		sr := newSearch[int64](net)
+		tc, tl := buildTree(sr, tt, w), buildTree(sr, tt, lw)
+		sr.run(s, tt, w, treeH(tc))
+		pc := sr.pathTo(tt)
+		cost := sr.dist(tt)
+		if !sr.runAtMost(s, tt, w, treeH(tc), true, cost) || fmt.Sprint(sr.pathTo(tt)) != fmt.Sprint(pc) {
+			t.Fatalf("case %d: capped at the optimum %d the search found another path", i, cost)
+		}
+		if sr.runAtMost(s, tt, w, nil, true, cost-1) {
+			t.Fatalf("case %d: capped below the optimum %d the search found a path", i, cost)
+		}
+		limit := int64(10_000 + r.IntN(40_000))
+		want := exactRCSP(c, s, tt, limit)
+		if want < 0 || tl.dist[s] > limit {
+			continue
+		}
+		sr.run(s, tt, lw, treeH(tl))
+		pd := sr.pathTo(tt)
+		rc := newRCSPScratch(net)
+		for _, most := range []int64{want - 1, want, want + 5} {
+			pl := larac(net, rc, s, tt, limit, w, tc.dist, tl.dist, pc, pd, most)
+			if pl == nil && most >= want {
+				t.Fatalf("case %d: LARAC capped at %d gave none, the optimum within reach is %d", i, most, want)
+			}
+			if pl != nil {
+				if got, l := pathEval(net, pl, w); got < want || l > limit {
+					t.Fatalf("case %d: LARAC capped at %d gave cost %d length %d, optimum %d limit %d", i, most, got, l, want, limit)
+				}
+			}
+		}
+		checked++
+	}
+	if checked < 100 {
+		t.Fatalf("only %d cases within reach", checked)
 	}
 }

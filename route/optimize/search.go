@@ -120,6 +120,14 @@ func treeH(t *tree) heuristic[int64] {
 // when h is non-nil. It stops when goal is settled (goal < 0: settle everything) and reports
 // whether goal was reached. Time O(|E| log |V|) for what it visits.
 func (s *search[W]) run(root, goal int, w func(e int32) (W, bool), h heuristic[W]) bool {
+	return s.runAtMost(root, goal, w, h, false, 0)
+}
+
+// runAtMost is run for a caller that wants goal only at a weight of at most most (when capped):
+// a node whose key (weight, plus h under A*) exceeds most is not queued, and goal is not
+// reached when every path to it weighs more. Keys leave the queue in order, so whatever
+// reaches goal within most does so exactly as run would: same path, same ties.
+func (s *search[W]) runAtMost(root, goal int, w func(e int32) (W, bool), h heuristic[W], capped bool, most W) bool {
 	s.stamp++
 	if s.stamp == 0 { // wrapped: clear once every 2³² runs
 		clear(s.ns)
@@ -137,6 +145,9 @@ func (s *search[W]) run(root, goal int, w func(e int32) (W, bool), h heuristic[W
 	var k W
 	if h != nil {
 		k, _ = h(int32(root))
+	}
+	if capped && k > most {
+		return false
 	}
 	if rad != nil {
 		rad.push(int64(k), int32(root))
@@ -195,6 +206,9 @@ func (s *search[W]) run(root, goal int, w func(e int32) (W, bool), h heuristic[W
 					continue
 				}
 				k += hv
+			}
+			if capped && k > most {
+				continue
 			}
 			nv.seen, nv.dist, nv.lenMM, nv.pred = st, nd, lu+net.lenMM[a.edge], a.edge
 			if rad != nil {

@@ -629,14 +629,16 @@ const (
 // its hops (free end → anchor), marginal weight and whether one within reach exists. When the
 // cheapest path is too long, route returns it with tooLong set and ok false, without the
 // search within reach (routeWithin), which costs tens of searches: its weight bounds every
-// path within reach from below, so that best may rule the option out first.
-func (sv *solver) route(d, o int) (hops []Hop, weight int64, ok, tooLong bool) {
+// path within reach from below, so that best may rule the option out first. A path weighing
+// more than most is not looked for (bestBelow's mostWeight): route then returns none, as for
+// an option with no route.
+func (sv *solver) route(d, o int, most int64) (hops []Hop, weight int64, ok, tooLong bool) {
 	s, t := sv.from[d], sv.to[d]
 	prof := sv.optProf[d][o]
 	bd := sv.bound(t, prof)
 	tr := bd.t
 	limit := sv.reach[d][o]
-	if lt := sv.lenTreeOf(t, sv.profLen[prof]); tr.dist[s] < 0 || lt.dist[s] > limit {
+	if lt := sv.lenTreeOf(t, sv.profLen[prof]); tr.dist[s] < 0 || lt.dist[s] > limit || tr.dist[s] > most {
 		return nil, 0, false, false
 	}
 	w := sv.weightFor(d, o)
@@ -658,7 +660,7 @@ func (sv *solver) route(d, o int) (hops []Hop, weight int64, ok, tooLong bool) {
 	if exact {
 		return tr.pathFrom(sv.net, s), tr.dist[s], true, false
 	}
-	if !sv.srch.run(s, t, w, treeH(tr)) {
+	if !sv.srch.runAtMost(s, t, w, treeH(tr), most < math.MaxInt64, most) {
 		return nil, 0, false, false
 	}
 	hops = sv.srch.pathTo(t)
@@ -669,8 +671,9 @@ func (sv *solver) route(d, o int) (hops []Hop, weight int64, ok, tooLong bool) {
 }
 
 // routeWithin is route's search within reach for demand d with option o, whose cheapest path
-// cheapest (from route) is too long: LARAC's path, then the exact label search below its cost.
-func (sv *solver) routeWithin(d, o int, cheapest []Hop) ([]Hop, int64, bool) {
+// cheapest (from route) is too long: LARAC's path, then the exact label search below its cost;
+// none when no path within reach weighs at most most (bestBelow's mostWeight).
+func (sv *solver) routeWithin(d, o int, cheapest []Hop, most int64) ([]Hop, int64, bool) {
 	s, t := sv.from[d], sv.to[d]
 	prof := sv.optProf[d][o]
 	tr := sv.bound(t, prof).t
@@ -690,12 +693,18 @@ func (sv *solver) routeWithin(d, o int, cheapest []Hop) ([]Hop, int64, bool) {
 		return nil, 0, false
 	}
 	pd := sv.srch.pathTo(t)
-	pl := larac(sv.net, sv.rc, s, t, limit, w, tr.dist, lt.dist, cheapest, pd)
+	pl := larac(sv.net, sv.rc, s, t, limit, w, tr.dist, lt.dist, cheapest, pd, most)
+	if pl == nil {
+		return nil, 0, false
+	}
 	ub, _ := pathEval(sv.net, pl, w)
-	if ex, ok, _ := labelSearch(sv.net, sv.rc, s, t, limit, w, tr.dist, lt.dist, ub); ok {
+	if ex, ok, _ := labelSearch(sv.net, sv.rc, s, t, limit, w, tr.dist, lt.dist, min(ub, most)); ok {
 		pl = ex
 	}
 	c, _ := pathEval(sv.net, pl, w)
+	if c > most {
+		return nil, 0, false
+	}
 	return pl, c, true
 }
 
@@ -850,7 +859,7 @@ func (sv *solver) bestBelow(d int, below int64) choice {
 		if pruned(x) {
 			break
 		}
-		hops, w, ok, tooLong := sv.route(d, x.opt)
+		hops, w, ok, tooLong := sv.route(d, x.opt, sv.mostWeight(d, x.opt, 1, below, bestC))
 		switch {
 		case ok:
 			consider(x.opt, [2][]Hop{hops}, 1, w)
@@ -865,11 +874,30 @@ func (sv *solver) bestBelow(d int, below int64) choice {
 		if pruned(y.x) {
 			continue
 		}
-		if hops, w, ok := sv.routeWithin(d, y.x.opt, y.cheapest); ok {
+		if hops, w, ok := sv.routeWithin(d, y.x.opt, y.cheapest, sv.mostWeight(d, y.x.opt, 1, below, bestC)); ok {
 			consider(y.x.opt, [2][]Hop{hops}, 1, w)
 		}
 	}
 	return done()
+}
+
+// mostWeight is the most a route (legs 1) or pair (legs 2) of demand d's option o may weigh
+// to matter to bestBelow: under below less its option's cents, and, against the best found so
+// far, at most its objective less them (an equal objective may still win on metres, cand.less).
+// math.MaxInt64 when nothing caps it, and under the length objective, which weighs metres.
+func (sv *solver) mostWeight(d, o, legs int, below int64, best cand) int64 {
+	if sv.length {
+		return math.MaxInt64
+	}
+	oc := sv.optionCents(d, o, legs)
+	most := int64(math.MaxInt64)
+	if below < math.MaxInt64 {
+		most = below - oc - 1
+	}
+	if best.obj < math.MaxInt64 {
+		most = min(most, best.obj-oc)
+	}
+	return most
 }
 
 // planTreeNodes is the network size, in nodes, from which the searches use plan trees

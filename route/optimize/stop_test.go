@@ -3,6 +3,7 @@ package optimize
 import (
 	"context"
 	"errors"
+	"math"
 	"math/rand/v2"
 	"reflect"
 	"testing"
@@ -179,7 +180,7 @@ func TestLabelSearchStops(t *testing.T) {
 	sr.run(s, tt, lw, treeH(tl))
 	pd := sr.pathTo(tt)
 	looks = 0
-	if got := larac(net, rc, s, tt, limit, w, tc.dist, tl.dist, pc, pd); !reflect.DeepEqual(got, pd) || looks != 1 {
+	if got := larac(net, rc, s, tt, limit, w, tc.dist, tl.dist, pc, pd, math.MaxInt64); !reflect.DeepEqual(got, pd) || looks != 1 {
 		t.Errorf("stopped LARAC: %d looks, returned the shortest path given: %v; want 1 look and that path", looks, reflect.DeepEqual(got, pd))
 	}
 }
