@@ -349,9 +349,11 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 		case edgeEntrance:
 			e.ID, e.Group = "entrance "+x.entry.ID+" of "+x.building, x.group
 			if lat := x.entry.LateralM; lat > 0 {
-				// The entrance's lateral: cable and its pull in the duct the plan builds, outdoors.
-				e.LengthM, e.CableM, e.ReachM = lat, items.Wasted(d, lat), lat
-				e.PerCableCents = m.cents(items.LegEnds(0, 0, lat)...)
+				// The entrance's lateral: cable and its pull in the duct the plan builds, outdoors,
+				// and up the pole where it leaves a pole line (a riser of the leg, fillLeg).
+				pole := items.PoleRiserM(d, lat, x.entry.PoleRiser)
+				e.LengthM, e.CableM, e.ReachM = lat, items.Wasted(d, lat+pole), lat+pole
+				e.PerCableCents = m.cents(items.LegEnds(pole, pole, 0, lat)...)
 				e.Flags = lay.classBit[lateralClass]
 				if loops > 0 { // the tap's handhole, a structure passed (passesOf)
 					loopM := loops * d.SlackLoopStructureM
@@ -598,7 +600,10 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link, sh *shortest) (op
 		future, _ = m.eng.Catalog().ParseRate(l.FutureRate)
 	}
 	strands := CableStrands(l.Strands, l.Growth)
-	riser := s.RiserM(l.To) + s.RiserM(l.From)
+	// The risers: the buildings' and, at an end with one entrance, the riser down the pole
+	// where its counted lateral leaves a pole line (entrance edges carry theirs, layout).
+	pole := items.PoleRiserM(m.design, src.LateralM, src.PoleRiser) + items.PoleRiserM(m.design, dst.LateralM, dst.PoleRiser)
+	riser := s.RiserM(l.To) + s.RiserM(l.From) + pole
 	lateral := src.LateralM + dst.LateralM
 	d := m.design
 	slack := 2 * d.SlackM
@@ -610,7 +615,7 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link, sh *shortest) (op
 	endSlack := coils + 2*endLoops + taps*d.SlackLoopStructureM // the ends' slack whole, for the cable's price (cableFor)
 	endLoops += taps * d.SlackLoopStructureM
 	ends := riser + lateral + coils + endLoops
-	endItems := append(items.LegEnds(riser, coils, lateral), items.StructureLoops(endLoops)...)
+	endItems := append(items.LegEnds(riser, pole, coils, lateral), items.StructureLoops(endLoops)...)
 	// The crew: one pull set-up more than the pull points the route passes, the halves at its
 	// ends its spans leave out, and both cable ends prepared.
 	pull, entered := crewHalves(s, src.Junction, dst.Junction) // "" at an end with several entrances: none

@@ -10,6 +10,7 @@ import (
 	"spanwright/geo"
 	"spanwright/geo/input"
 	"spanwright/media"
+	"spanwright/route/items"
 	"spanwright/route/optimize"
 	"spanwright/route/site"
 )
@@ -41,7 +42,10 @@ type Leg struct {
 	Pathways []string   // pathway IDs in travel order, each once
 	RouteM   float64    // along pathways, laterals at both ends included, in metres
 	LateralM float64    // the laterals alone, in metres
-	RiserM   float64    // risers at both ends, in metres
+	// RiserM is the risers at both ends, in metres: the buildings' (riser_m) and, where a
+	// counted lateral leaves a pole line, the riser down the pole (PoleRiserM of it).
+	RiserM     float64
+	PoleRiserM float64 // the part of RiserM down poles (items.PoleRiserM), outdoors
 	// Outdoor is whether the route leaves the buildings (a span other than a tray, or a
 	// lateral; media.Link.Outdoor): its cable then enters both end buildings from outside.
 	Outdoor  bool
@@ -119,7 +123,8 @@ func (c LegCost) TotalCents() int64 {
 // legsOf turns the optimizer's route of one link into its legs, with media and costs.
 func legsOf(s *site.Site, cm *Model, lay *layout, prob *optimize.Problem, rt *optimize.Route, l *site.Link, info demandInfo, why string, built builtOn) []Leg {
 	from, to := lay.endEntry[l.To], lay.endEntry[l.From]
-	base := Leg{Link: l, RiserM: info.facts.RiserM, LateralM: from.LateralM + to.LateralM, StrandsCable: info.strands}
+	pole := items.PoleRiserM(cm.design, from.LateralM, from.PoleRiser) + items.PoleRiserM(cm.design, to.LateralM, to.PoleRiser)
+	base := Leg{Link: l, RiserM: info.facts.RiserM, PoleRiserM: pole, LateralM: from.LateralM + to.LateralM, StrandsCable: info.strands}
 	primary := base
 	primary.Name = LegPrimary
 	if !rt.Feasible {
@@ -196,6 +201,9 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 	for _, h := range ol.Hops {
 		if x, ok := lay.isExtra(len(s.Net.Spans), h.Edge); ok && x.kind == edgeEntrance {
 			leg.LateralM += x.entry.LateralM
+			pole := items.PoleRiserM(cm.design, x.entry.LateralM, x.entry.PoleRiser)
+			leg.RiserM += pole
+			leg.PoleRiserM += pole
 			switch x.building {
 			case leg.Link.To:
 				leg.EntranceTo = x.entry.ID
@@ -272,7 +280,7 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 		}
 	}
 	facts := info.facts
-	facts.RouteM = leg.RouteM
+	facts.RouteM, facts.RiserM = leg.RouteM, leg.RiserM
 	// The spans of the route drawn inside an end's building are inside it too, and so is the
 	// route from that end back to where it crosses the building's wall.
 	facts.InsideAM += interiorM(s, leg.Link.To, ol) + indoorM(s, leg.Link.To, ol, true)

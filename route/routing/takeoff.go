@@ -290,6 +290,9 @@ func passesOf(s *site.Site, d plan.Design, leg *Leg, built builtOn) ([]SplicePoi
 	tapTo, tapFrom := tapOf(s, entry), tapOf(s, far)
 	ownTap := func(j string) bool { return j != "" && (j == tapTo || j == tapFrom) }
 	at = s.RiserM(to) + d.SlackM + d.SlackLoopEntranceM + entry.LateralM
+	// A lateral that leaves a pole line comes up the pole from the handhole at its foot (its
+	// tap, the first junction) to the strand; the far end's comes down before its last.
+	poleTo, poleFrom := items.PoleRiserM(d, entry.LateralM, entry.PoleRiser), items.PoleRiserM(d, far.LateralM, far.PoleRiser)
 	juncs := s.JunctionsOf(leg.Steps)
 	atJunction := func(k int) {
 		j := juncs[k]
@@ -302,6 +305,9 @@ func passesOf(s *site.Site, d plan.Design, leg *Leg, built builtOn) ([]SplicePoi
 	}
 	for k, st := range leg.Steps {
 		atJunction(k)
+		if k == 0 {
+			at += poleTo
+		}
 		sp, _ := s.Net.Span(st.SpanID)
 		offs := slices.Clone(built.along[st.SpanID]) // metres from the span's from end
 		slices.Sort(offs)
@@ -324,6 +330,7 @@ func passesOf(s *site.Site, d plan.Design, leg *Leg, built builtOn) ([]SplicePoi
 		at = start + sp.LengthM + float64(len(hh))*d.SlackLoopStructureM
 	}
 	if len(juncs) > 0 {
+		at += poleFrom
 		atJunction(len(juncs) - 1)
 	}
 	return out, spans
