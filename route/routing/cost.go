@@ -562,6 +562,10 @@ type demandInfo struct {
 	// layings are the options' layings by option name: how each prices its cable (the zero
 	// Laying when the medium's cheapest construction passes on no route of the link's ends).
 	layings map[string]media.Laying
+	// indoorTo and indoorFrom are the metres of every route inside the end buildings (Link.To,
+	// Link.From) along a tunnel or tray from the wall to the entrance (endIndoorM), in
+	// facts.InsideAM and InsideBM; fillLeg counts the route's own in their place.
+	indoorTo, indoorFrom float64
 }
 
 // optionName is the name of the option of medium laid as lay: the medium alone for its
@@ -632,12 +636,16 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link, sh *shortest) (op
 	// Inside each end's building: its riser, its service coil and its entrance loop (the
 	// route's own spans inside it are added per leg, fillLeg) — NFPA 70 770.48 counts
 	// unlisted cable from the point of entrance.
-	insideTo := s.RiserM(l.To) + d.SlackM + d.SlackLoopEntranceM
-	insideFrom := s.RiserM(l.From) + d.SlackM + d.SlackLoopEntranceM
+	// A tunnel or tray from the wall to an entrance inside an end building that every route
+	// takes is inside it too (endIndoorM), so the cable is priced and chosen on it before
+	// routing, as the bill buys it.
+	indoorTo, indoorFrom := endIndoorM(s, lay, l.To), endIndoorM(s, lay, l.From)
+	insideTo := s.RiserM(l.To) + d.SlackM + d.SlackLoopEntranceM + indoorTo
+	insideFrom := s.RiserM(l.From) + d.SlackM + d.SlackLoopEntranceM + indoorFrom
 	facts := media.Link{ID: l.ID, RiserM: riser, SlackM: slack, RateGbps: rate, FutureRateGbps: future,
 		MaxEMI: geo.EMINone, ConnectorPairs: ConnectorPairs, Strands: strands, CopperCables: CopperCables(l.Strands, l.Growth),
 		InsideAM: insideTo, InsideBM: insideFrom, EndA: l.To, EndB: l.From}
-	info := demandInfo{facts: facts, rate: rate, strands: strands}
+	info := demandInfo{facts: facts, rate: rate, strands: strands, indoorTo: indoorTo, indoorFrom: indoorFrom}
 	dm := optimize.Demand{ID: l.ID, Source: int(srcN), Target: int(dstN), Diverse: l.Diverse}
 	if !okS || !okD {
 		return dm, info // no entrance: no option, so no route (the reason comes from the site, route.Result.cutOff)
@@ -916,6 +924,7 @@ func (m *Model) reachWithJoinsM(s *site.Site, medium string, lay media.Laying, r
 type cableKey struct {
 	medium                       string
 	rate, future, riserM, slackM float64
+	insideA, insideB             float64 // the ends' inside metres, which the rule entrance-15m judges each
 	strands                      int
 }
 
@@ -929,7 +938,7 @@ type cabled struct {
 // risers and slackM of slack, and the laying it prices (media.Engine.CableLayingFor),
 // remembered per plan.
 func (m *Model) cableFor(medium string, rate float64, facts media.Link, slackM float64) (media.Laying, int64) {
-	k := cableKey{medium, rate, facts.FutureRateGbps, facts.RiserM, slackM, facts.Strands}
+	k := cableKey{medium, rate, facts.FutureRateGbps, facts.RiserM, slackM, facts.InsideAM, facts.InsideBM, facts.Strands}
 	if v, ok := m.cableMemo[k]; ok {
 		return v.laying, v.perM
 	}
