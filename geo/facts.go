@@ -672,8 +672,10 @@ func (b *builder) transit(n *Network) {
 	type under struct {
 		building string
 		alongM   float64 // where the span enters the footprint, from its From end
+		share    float64 // the share of the span's length inside it, wall to wall (through)
 	}
 	beneath := make(map[int][]under)
+	through := make(map[int][]under) // tunnel and tray spans across a footprint, wall to wall
 	// Each duct or buried span's line on the local projection, with its bounding box,
 	// projected the first time a building it may pass beneath asks for it (by span index).
 	type spanXY struct {
@@ -715,6 +717,9 @@ func (b *builder) transit(n *Network) {
 				for _, si := range indoorOf[b.c.Pathways[pw].ID] {
 					if s := xyOf(si); !boxesMiss(s.lo, s.hi, f.lo, f.hi) {
 						b.indoors(&n.Spans[si], bl.ID, f, s.xy)
+						if at, share, ok := b.passesBeneath(f, s.xy); ok {
+							through[si] = append(through[si], under{bl.ID, at, share})
+						}
 					}
 				}
 			}
@@ -725,8 +730,8 @@ func (b *builder) transit(n *Network) {
 					if boxesMiss(s.lo, s.hi, f.lo, f.hi) {
 						continue // nowhere near f: passesBeneath would find nothing
 					}
-					if at, ok := b.passesBeneath(f, s.xy); ok {
-						beneath[si] = append(beneath[si], under{bl.ID, at})
+					if at, _, ok := b.passesBeneath(f, s.xy); ok {
+						beneath[si] = append(beneath[si], under{bl.ID, at, 0})
 					}
 				}
 			}
@@ -762,6 +767,17 @@ func (b *builder) transit(n *Network) {
 		})
 		for _, u := range us {
 			n.Spans[si].Beneath = append(n.Spans[si].Beneath, u.building)
+		}
+	}
+	for si, us := range through {
+		slices.SortFunc(us, func(x, y under) int {
+			return cmp.Or(cmp.Compare(x.alongM, y.alongM), strings.Compare(x.building, y.building))
+		})
+		sp := &n.Spans[si]
+		for _, u := range us {
+			// The share of the projected line, of the span's ellipsoidal length: the local
+			// projection keeps ratios along a line of campus size to well under a millimetre.
+			sp.Through = append(sp.Through, Crossing{Building: u.building, LengthM: u.share * sp.LengthM})
 		}
 	}
 }
@@ -807,11 +823,12 @@ func (b *builder) indoors(s *Span, id string, f *footprint, xy []vec) {
 
 // passesBeneath reports whether line xy (a span's, on the local projection) runs across
 // footprint f for more than SnapM (projected) in stretches that begin and end at its
-// boundary, not at an end of the line inside it, and where along the line (projected metres
-// from its first point) the first such stretch begins.
-func (b *builder) passesBeneath(f *footprint, xy []vec) (float64, bool) {
+// boundary, not at an end of the line inside it, where along the line (projected metres
+// from its first point) the first such stretch begins, and the share of the line's length
+// those stretches take (0 to 1).
+func (b *builder) passesBeneath(f *footprint, xy []vec) (float64, float64, bool) {
 	if len(xy) < 2 {
-		return 0, false
+		return 0, 0, false
 	}
 	deep := func(p vec) bool { // an end more than SnapM inside the footprint
 		if !f.contains(p) {
@@ -847,7 +864,10 @@ func (b *builder) passesBeneath(f *footprint, xy []vec) (float64, bool) {
 		}
 		m += s.to - s.from
 	}
-	return at, found && m > b.snap
+	if !found || m <= b.snap || cum <= 0 {
+		return 0, 0, false
+	}
+	return at, m / cum, true
 }
 
 // inside reports whether the pathway made of parts r[0]..r[1]-1 lies inside footprint f.

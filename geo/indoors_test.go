@@ -77,3 +77,60 @@ func TestSpanIndoors(t *testing.T) {
 		})
 	}
 }
+
+// TestSpanThrough (inside13): a tunnel that runs beneath a building from one wall to the other
+// puts its cable inside that building there (NFPA 70 770.48(A) counts unlisted cable from the
+// point of entrance, where it crosses the wall; from memory), though the building is at
+// neither end: Span.Through lists it with the metres inside, measured along the line as
+// Span.LengthM is. The plant building M, 40 m across with an entrance of its own (a duct to
+// its north wall, so that its walls are not its entrances), has the tunnel from A to B
+// crossing it for 40 m; a tray does as a tunnel; a duct drawn across M runs beneath its slab
+// (Span.Beneath) and has no Through; a tunnel that only grazes M's corner within snap_m has
+// none.
+func TestSpanThrough(t *testing.T) {
+	t.Parallel()
+	plant := Building{Source: Source{File: "t.geojson", Index: 2}, ID: "M", RiserM: DefaultRiserM,
+		Footprint: orb.MultiPolygon{{orb.Ring{at(80, -10), at(120, -10), at(120, 10), at(80, 10), at(80, -10)}}}}
+	way := func(typ string, xy ...float64) Pathway {
+		p := pw("T", ml(xy...))
+		p.Type = typ
+		if typ != TypeDuct {
+			p.SpareDucts = 0
+		}
+		return p
+	}
+	for _, tc := range []struct {
+		name    string
+		way     Pathway
+		through float64 // metres inside M, 0 for none
+		beneath bool
+	}{
+		{"tunnel across M", way(TypeTunnel, 10, 0, 200, 0), DistanceM(at(80, 0), at(120, 0)), false},
+		{"tray across M", way(TypeTray, 10, 0, 200, 0), DistanceM(at(80, 0), at(120, 0)), false},
+		{"duct across M", way(TypeDuct, 10, 0, 200, 0), 0, true},
+		{"tunnel along M's wall", way(TypeTunnel, 10, -10.3, 200, -10.3), 0, false},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			c := Campus{Buildings: []Building{box("A", 0, 0, 10), plant, box("B", 210, 0, 10)},
+				Pathways: []Pathway{tc.way, pw("E", ml(100, 10, 100, 40, 5, 40, 5, 10))}}
+			n := build(t, &c)
+			s, ok := n.Span("T")
+			if !ok {
+				t.Fatalf("no span T: %s", spanIDs(n))
+			}
+			var got float64
+			for _, x := range s.Through {
+				if x.Building != "M" {
+					t.Errorf("through %s; want M alone", x.Building)
+				}
+				got += x.LengthM
+			}
+			if math.Abs(got-tc.through) > 0.001 || (tc.through > 0) != (len(s.Through) == 1) {
+				t.Errorf("through %+v; want %.3f m inside M", s.Through, tc.through)
+			}
+			if beneath := len(s.Beneath) == 1 && s.Beneath[0] == "M"; beneath != tc.beneath {
+				t.Errorf("beneath %q; want M %v", s.Beneath, tc.beneath)
+			}
+		})
+	}
+}

@@ -73,6 +73,14 @@ type Span struct {
 	// NFPA 70 770.48(A) counts from the point of entrance. A duct or buried span has none: its
 	// cable emerges from the floor slab where it ends. Sorted by end (From first), then building.
 	Indoors []IndoorEnd
+	// Through lists, for a tunnel or tray span, the buildings whose footprint it runs across
+	// from wall to wall for more than SnapM (a tunnel under a building's basement, entering at
+	// one wall and leaving at another; a stretch from an end of the span inside a footprint is
+	// in Indoors instead), in order from From to To, each with the metres inside: a cable
+	// along it is inside that building there, from the wall where it enters (NFPA 70
+	// 770.48(A) counts unlisted cable from its point of entrance), though the building is at
+	// neither end. A duct or buried span has none: it runs beneath the floor slab (Beneath).
+	Through []Crossing
 	// near holds, for the From and the To end, how many vertices in from that end is the
 	// first vertex that the line simplified within BendToleranceM keeps (bendsDeg); 0 for a
 	// span not made by Build, taken as 1 (AwayFrom).
@@ -85,6 +93,13 @@ type IndoorEnd struct {
 	Building string
 	AtTo     bool    // the stretch is at the span's To end, else at its From end
 	LengthM  float64 // ellipsoidal metres from that end to the wall crossing; the span's LengthM when it crosses no wall
+}
+
+// Crossing is a building a span runs across from wall to wall, and the metres of the span
+// inside its footprint there (Span.Through).
+type Crossing struct {
+	Building string
+	LengthM  float64 // ellipsoidal metres inside the footprint, wall to wall
 }
 
 // IndoorM is the metres of the span inside building b from its To end (atTo) or its From end

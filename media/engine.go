@@ -530,6 +530,7 @@ func (e *Engine) evaluate(c *candidate, l Link, at lengths, mi, ai, ki int, v va
 		ib = 0
 	}
 	f[fUnsplicedInsideMaxM].num = max(ia, ib)
+	f[fCrossedInsideMaxM].num, f[fCrossedBuilding].str = l.CrossedInsideMaxM, cmp.Or(l.CrossedBuilding, "a building it passes through")
 	f[fEndA].str, f[fEndB].str = cmp.Or(l.EndA, "the building at one end"), cmp.Or(l.EndB, "the building at the other end")
 	f[fCable].str = c.label()
 	if !m.Fibre() {
@@ -705,7 +706,7 @@ func checkLink(l Link) string {
 		name string
 		v    float64
 	}{{"route_m", l.RouteM}, {"riser_m", l.RiserM}, {"slack_m", l.SlackM}, {"future_rate_gbps", l.FutureRateGbps},
-		{"inside_a_m", l.InsideAM}, {"inside_b_m", l.InsideBM}, {"crossed_inside_m", l.CrossedInsideM}} {
+		{"inside_a_m", l.InsideAM}, {"inside_b_m", l.InsideBM}, {"crossed_inside_m", l.CrossedInsideM}, {"crossed_inside_max_m", l.CrossedInsideMaxM}} {
 		if !finite(q.v) || q.v < 0 {
 			bad = append(bad, fmt.Sprintf("%s is %g, want >= 0", q.name, q.v))
 		}
@@ -762,15 +763,15 @@ type chooseKey struct {
 	outdoor, plenum                              bool
 	types                                        string
 	pairs, splices, strands, copper              int
-	insideA, insideB, crossed                    float64
-	endA, endB, emiSpans                         string
+	insideA, insideB, crossed, crossedMax        float64
+	endA, endB, emiSpans, crossedBuilding        string
 }
 
 func keyOf(l Link) chooseKey {
 	return chooseKey{id: l.ID, routeM: l.RouteM, riserM: l.RiserM, slackM: l.SlackM, rateGbps: l.RateGbps,
 		futureGbps: l.FutureRateGbps, emi: l.MaxEMI, outdoor: l.Outdoor, plenum: l.Plenum, types: strings.Join(l.PathwayTypes, "\x00"),
 		pairs: l.ConnectorPairs, splices: l.Splices, strands: l.Strands, copper: l.CopperCables, insideA: l.InsideAM, insideB: l.InsideBM,
-		crossed: l.CrossedInsideM, endA: l.EndA, endB: l.EndB, emiSpans: l.EMISpans}
+		crossed: l.CrossedInsideM, crossedMax: l.CrossedInsideMaxM, endA: l.EndA, endB: l.EndB, emiSpans: l.EMISpans, crossedBuilding: l.CrossedBuilding}
 }
 
 // clone gives the caller slices of its own, so a remembered choice cannot be changed.
@@ -1278,7 +1279,8 @@ func (e *Engine) MaxChannelMAs(medium string, lay Laying, rateGbps, futureRateGb
 func maxKeyOf(medium string, lay Laying, rateGbps, futureRateGbps float64, l Link) maxKey {
 	return maxKey{medium: medium, laying: lay, rate: rateGbps, future: futureRateGbps, riser: l.RiserM, slack: l.SlackM,
 		emi: l.MaxEMI, outdoor: l.Outdoor, plenum: l.Plenum, types: strings.Join(l.PathwayTypes, ","), pairs: l.ConnectorPairs,
-		splices: l.Splices, strands: l.Strands, copper: l.CopperCables, insideA: l.InsideAM, insideB: l.InsideBM, crossed: l.CrossedInsideM}
+		splices: l.Splices, strands: l.Strands, copper: l.CopperCables, insideA: l.InsideAM, insideB: l.InsideBM, crossed: l.CrossedInsideM,
+		crossedMax: l.CrossedInsideMaxM}
 }
 
 // maxKey is what MaxChannelM's answer depends on (with the engine).
@@ -1292,6 +1294,7 @@ type maxKey struct {
 	pairs, splices, strands    int
 	copper                     int
 	insideA, insideB, crossed  float64
+	crossedMax                 float64
 }
 
 func (e *Engine) maxChannelM(medium string, lay Laying, rateGbps, futureRateGbps float64, l Link) float64 {

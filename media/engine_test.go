@@ -884,6 +884,31 @@ func TestNoMediumNamesEveryNearMiss(t *testing.T) {
 	}
 }
 
+// TestThroughBuildingRule: the rule through-15m judges the cable inside a building the route
+// only passes through (a tunnel across its basement from wall to wall): NFPA 70 770.48(A) lets
+// unlisted outside-plant cable run at most 15 m (50 ft) inside a building from its point of
+// entrance (from memory), and no transition can be spliced there. Over a direct-buried span
+// too, indoor/outdoor cable is not rated for burial (rule direct-burial: ICEA S-87-640 /
+// Telcordia GR-20, from memory), so with 40 m inside the plant building M no construction is
+// left, and the reason names M and its 40 m; with 15 m inside M outside-plant cable carries it.
+func TestThroughBuildingRule(t *testing.T) {
+	t.Parallel()
+	e := newEngine(t, nil, nil, EngineOptions{})
+	l := Link{ID: "L", RouteM: 600, RiserM: 4, RateGbps: 10, Outdoor: true, ConnectorPairs: 2, Strands: 12,
+		PathwayTypes: []string{"buried", "tunnel"}, InsideAM: 12, InsideBM: 12, CrossedInsideM: 40, CrossedInsideMaxM: 40, CrossedBuilding: "M"}
+	ch := e.Choose(l)
+	if ch.Feasible {
+		t.Fatalf("40 m inside M: feasible as %s %s", ch.Medium, ch.Construction)
+	}
+	if !strings.Contains(ch.Reason, "os2 rejected by through-15m") || !strings.Contains(ch.Reason, "runs 40 m inside M") {
+		t.Errorf("40 m inside M: %s; want through-15m naming M's 40 m", ch.Reason)
+	}
+	l.CrossedInsideM, l.CrossedInsideMaxM = 15, 15
+	if ch := e.Choose(l); !ch.Feasible || ch.Construction != "osp-loose-tube" || ch.Inside != "" {
+		t.Errorf("15 m inside M: %s %s spliced to %q (%s); want osp-loose-tube, no transition", ch.Medium, ch.Construction, ch.Inside, ch.Reason)
+	}
+}
+
 // TestTransitionTakesTrays: the 600 m link over a direct-buried span and a tray that used to
 // have no construction (TestNoMediumNamesEveryNearMiss before the fix) takes outside-plant
 // cable between the entrances spliced to listed riser cable, which runs the riser, coil and

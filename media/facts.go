@@ -58,6 +58,8 @@ const (
 	fInsideBM
 	fInsideMaxM
 	fUnsplicedInsideMaxM
+	fCrossedInsideMaxM
+	fCrossedBuilding
 	fEndA
 	fEndB
 	fCordsM
@@ -128,6 +130,8 @@ var facts = [nFacts]Fact{
 	fInsideBM:                 numFact("inside_b_m", "cable inside the building at the link's other end, in metres"),
 	fInsideMaxM:               numFact("inside_max_m", "the larger of inside_a_m and inside_b_m, in metres"),
 	fUnsplicedInsideMaxM:      numFact("unspliced_inside_max_m", "the construction's own cable inside a building: the larger of inside_a_m and inside_b_m at the ends with no entrance transition (transition_a, transition_b), in metres; 0 with one at both ends"),
+	fCrossedInsideMaxM:        numFact("crossed_inside_max_m", "the most cable inside any one building the route passes through (neither end's): pathways drawn inside it and tunnels or trays across it wall to wall, in metres; 0 when it passes through none"),
+	fCrossedBuilding:          strFact("crossed_building", "the building of crossed_inside_max_m, by id, for reasons; \"a building it passes through\" when not known"),
 	fEndA:                     strFact("end_a", "the building at inside_a_m's end, by id, for reasons; \"the building at one end\" when not known"),
 	fEndB:                     strFact("end_b", "the building at inside_b_m's end, by id, for reasons; \"the building at the other end\" when not known"),
 	fCordsM:                   numFact("cords_m", "patch and equipment cords of a copper channel, both ends together, in metres"),

@@ -46,6 +46,13 @@ type Link struct {
 	// inside cable of an entrance transition, spliced on at the two ends' entrances, cannot
 	// take it.
 	CrossedInsideM float64
+	// CrossedInsideMaxM is the most metres of the route inside any one building it passes
+	// through (neither end's): pathways drawn inside it, and a tunnel or tray that runs across
+	// its footprint from wall to wall (geo.Span.Through); CrossedBuilding names that building,
+	// for reasons. NFPA 70 770.48(A) counts unlisted cable inside a building from its point of
+	// entrance, where the route crosses the wall, whatever building it goes on to.
+	CrossedInsideMaxM float64
+	CrossedBuilding   string
 }
 
 // Ends names the ends of a link where its outside-plant cable is spliced to listed inside

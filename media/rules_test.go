@@ -173,7 +173,7 @@ func TestDefaultRules(t *testing.T) {
 			t.Errorf("rule %s names no source", rule.ID)
 		}
 	}
-	want := "copper-90m,copper-100m,copper-emi,copper-outdoor,reach,multimode-2km,loss-budget,receiver-overload,future-rate,outdoor-construction,direct-burial,indoor-listing,plenum-listing,entrance-15m"
+	want := "copper-90m,copper-100m,copper-emi,copper-outdoor,reach,multimode-2km,loss-budget,receiver-overload,future-rate,outdoor-construction,direct-burial,indoor-listing,plenum-listing,entrance-15m,through-15m"
 	if got := strings.Join(ids, ","); got != want {
 		t.Errorf("rule order:\ngot  %s\nwant %s", got, want)
 	}

@@ -1499,7 +1499,7 @@ func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg) []
 			times(n, items.AlongSpan(d, items.PathwayTypes[i], m)...)
 		}
 	}
-	times(n, items.LegEnds(l.RiserM, t.EndSlackM+t.EntranceLoopM, l.LateralM)...)
+	times(n, items.LegEnds(l.RiserM, l.PoleRiserM, t.EndSlackM+t.EntranceLoopM, l.LateralM)...)
 	times(n, items.StructureLoops(t.StructureLoopM+t.SpliceSlackM)...)
 	// The crew, per cable: a pull set-up per section between the pull points the route
 	// passes or ends at (the campus's structures, and the handholes the plan builds on its

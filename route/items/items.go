@@ -76,9 +76,24 @@ func Inside(metres float64) media.Quantity {
 
 // LegEnds is what one cable takes at the ends of a leg besides the cable: risers, service
 // coils and entrance loops (coilsM) placed inside the buildings (Inside), counted laterals
-// pulled in the duct the plan builds for them (Entrance).
-func LegEnds(riserM, coilsM, lateralM float64) []media.Quantity {
-	return []media.Quantity{Inside(riserM + coilsM), Pull(geo.TypeDuct, lateralM)}
+// pulled in the duct the plan builds for them (Entrance) and up the riser conduit on a pole
+// where a lateral leaves a pole line, pulled as duct too. riserM is all the leg's risers,
+// poleRiserM of them down poles (PoleRiserM).
+func LegEnds(riserM, poleRiserM, coilsM, lateralM float64) []media.Quantity {
+	return []media.Quantity{Inside(riserM - poleRiserM + coilsM), Pull(geo.TypeDuct, lateralM+poleRiserM)}
+}
+
+// PoleRiserM is the cable, in metres, one cable takes on the pole where a counted lateral of
+// lateralM metres leaves a pole line (poleRiser, geo.Entry.PoleRiser): design.pole_riser_m,
+// from the strand down the pole's riser into the handhole at its foot; 0 for any other
+// entrance. It is a riser of the leg (routing.Leg.RiserM, media.Link.RiserM): in the cable
+// bought, the channel, the loss budget and the optimizer's reach, and pulled as duct
+// (LegEnds); outdoors, so in no building's inside metres. The one figure of it.
+func PoleRiserM(d plan.Design, lateralM float64, poleRiser bool) float64 {
+	if !poleRiser || lateralM <= 0 {
+		return 0
+	}
+	return d.PoleRiserM
 }
 
 // StructureLoops is what one cable's slack loops of metres at structures take besides the

@@ -62,8 +62,10 @@ type Structure struct {
 	Joined []string
 	// CoiledM is the cable coiled there, in metres over every cable: a slack loop
 	// (design.slack_loop_structure_m) for each cable of each leg whose structures passed hold
-	// it, and the splicing slack at both ends of each cable joined there (routing.CableTakeoff.
-	// SlackAtJoinM), which the crew stores with the closure. 0 where nothing is coiled.
+	// it, and the splicing slack at both ends of each cable joined there, which the crew stores
+	// with the closure: the larger of the two, once, at a join in a structure passed
+	// (routing.SplicePoint.SlackM adds what the splicing slack adds to the loop). 0 where
+	// nothing is coiled.
 	CoiledM float64
 }
 
@@ -171,7 +173,7 @@ func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 				if !slices.Contains(joined[k], label) {
 					joined[k] = append(joined[k], label)
 				}
-				coiled[k] += l.Cable.SlackAtJoinM() * cables
+				coiled[k] += p.SlackM * cables
 			}
 		}
 	}
@@ -243,7 +245,7 @@ func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 			legs = append(legs, l.Label())
 			for _, p := range l.Cable.Splices {
 				if p.NoStructure && p.Text(estimate.MetresText) == at {
-					coiledM += l.Cable.SlackAtJoinM() * float64(l.Cable.Cables)
+					coiledM += p.SlackM * float64(l.Cable.Cables)
 				}
 			}
 		}

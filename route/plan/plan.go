@@ -130,7 +130,12 @@ type Design struct {
 	// metres: the join is made above ground beside the structure (in a splicing vehicle or
 	// tent), so each end reaches up to it and is coiled in the structure with the closure
 	// afterwards. Each join puts 2 × SpliceSlackM more in the cable bought and in the channel.
-	SpliceSlackM     float64 `yaml:"splice_slack_m"`
+	SpliceSlackM float64 `yaml:"splice_slack_m"`
+	// PoleRiserM is the cable, in metres, that a counted lateral leaving a pole line takes on
+	// the pole: from the strand down the pole's riser into the handhole at its foot
+	// (geo.Entry.PoleRiser; items.PoleRiserM). It is in the leg's risers, so in the cable
+	// bought, the channel and the loss budget.
+	PoleRiserM       float64 `yaml:"pole_riser_m"`
 	PullMu           float64 `yaml:"pull_mu"`               // coefficient of friction between cable and duct
 	PullBendDeg      float64 `yaml:"pull_bend_deg"`         // most bend degrees between pull points
 	PullMaxM         float64 `yaml:"pull_max_m"`            // most metres between pull points; 0 for no limit
@@ -220,6 +225,10 @@ var Default = Plan{
 		// mid-span join (from memory); the upper end, so that a leg near its loss budget or its
 		// reel is not called feasible on slack the crew will leave.
 		SpliceSlackM: 15,
+		// Common practice, no published source: a communication cable is attached some 5 to
+		// 6 m up a campus pole (from memory), and its riser ends about half a metre into the
+		// handhole at the foot; 6 m, the upper end, so that a reel is not cut short.
+		PoleRiserM: 6,
 		// μ 0.5 is the usual default when the duct and lubricant are unknown (cable pulling
 		// statics, see REFERENCES); TIA-569 allows at most 180° of bends between pull points.
 		// TIA-569's 30 m between pull points applies to conduit in buildings, so campus duct
@@ -469,6 +478,7 @@ var planNumbers = []planNumber{
 	// A copper channel cannot be spliced, so a reel holds one at least.
 	{key: "design.reel_m", r: input.Range{Min: MaxCopperChannelM, Max: 100000, Unit: "metres"}},
 	{key: "design.splice_slack_m", r: input.Range{Min: 0, Max: 1000, Unit: "metres"}},
+	{key: "design.pole_riser_m", r: input.Range{Min: 0, Max: 100, Unit: "metres"}},
 	{key: "design.pull_mu", r: input.Range{Min: 0, Max: 2, Unit: "a coefficient of friction"}},
 	// NFPA 70 allows 360° of bends per raceway run.
 	{key: "design.pull_bend_deg", r: input.Range{Min: 0, AboveMin: true, Max: 360, Unit: "degrees"}},

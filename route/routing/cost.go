@@ -349,9 +349,11 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 		case edgeEntrance:
 			e.ID, e.Group = "entrance "+x.entry.ID+" of "+x.building, x.group
 			if lat := x.entry.LateralM; lat > 0 {
-				// The entrance's lateral: cable and its pull in the duct the plan builds, outdoors.
-				e.LengthM, e.CableM, e.ReachM = lat, items.Wasted(d, lat), lat
-				e.PerCableCents = m.cents(items.LegEnds(0, 0, lat)...)
+				// The entrance's lateral: cable and its pull in the duct the plan builds, outdoors,
+				// and up the pole where it leaves a pole line (a riser of the leg, fillLeg).
+				pole := items.PoleRiserM(d, lat, x.entry.PoleRiser)
+				e.LengthM, e.CableM, e.ReachM = lat, items.Wasted(d, lat+pole), lat+pole
+				e.PerCableCents = m.cents(items.LegEnds(pole, pole, 0, lat)...)
 				e.Flags = lay.classBit[lateralClass]
 				if loops > 0 { // the tap's handhole, a structure passed (passesOf)
 					loopM := loops * d.SlackLoopStructureM
@@ -560,6 +562,10 @@ type demandInfo struct {
 	// layings are the options' layings by option name: how each prices its cable (the zero
 	// Laying when the medium's cheapest construction passes on no route of the link's ends).
 	layings map[string]media.Laying
+	// indoorTo and indoorFrom are the metres of every route inside the end buildings (Link.To,
+	// Link.From) along a tunnel or tray from the wall to the entrance (endIndoorM), in
+	// facts.InsideAM and InsideBM; fillLeg counts the route's own in their place.
+	indoorTo, indoorFrom float64
 }
 
 // optionName is the name of the option of medium laid as lay: the medium alone for its
@@ -598,7 +604,10 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link, sh *shortest) (op
 		future, _ = m.eng.Catalog().ParseRate(l.FutureRate)
 	}
 	strands := CableStrands(l.Strands, l.Growth)
-	riser := s.RiserM(l.To) + s.RiserM(l.From)
+	// The risers: the buildings' and, at an end with one entrance, the riser down the pole
+	// where its counted lateral leaves a pole line (entrance edges carry theirs, layout).
+	pole := items.PoleRiserM(m.design, src.LateralM, src.PoleRiser) + items.PoleRiserM(m.design, dst.LateralM, dst.PoleRiser)
+	riser := s.RiserM(l.To) + s.RiserM(l.From) + pole
 	lateral := src.LateralM + dst.LateralM
 	d := m.design
 	slack := 2 * d.SlackM
@@ -610,7 +619,7 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link, sh *shortest) (op
 	endSlack := coils + 2*endLoops + taps*d.SlackLoopStructureM // the ends' slack whole, for the cable's price (cableFor)
 	endLoops += taps * d.SlackLoopStructureM
 	ends := riser + lateral + coils + endLoops
-	endItems := append(items.LegEnds(riser, coils, lateral), items.StructureLoops(endLoops)...)
+	endItems := append(items.LegEnds(riser, pole, coils, lateral), items.StructureLoops(endLoops)...)
 	// The crew: one pull set-up more than the pull points the route passes, the halves at its
 	// ends its spans leave out, and both cable ends prepared.
 	pull, entered := crewHalves(s, src.Junction, dst.Junction) // "" at an end with several entrances: none
@@ -627,12 +636,16 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link, sh *shortest) (op
 	// Inside each end's building: its riser, its service coil and its entrance loop (the
 	// route's own spans inside it are added per leg, fillLeg) — NFPA 70 770.48 counts
 	// unlisted cable from the point of entrance.
-	insideTo := s.RiserM(l.To) + d.SlackM + d.SlackLoopEntranceM
-	insideFrom := s.RiserM(l.From) + d.SlackM + d.SlackLoopEntranceM
+	// A tunnel or tray from the wall to an entrance inside an end building that every route
+	// takes is inside it too (endIndoorM), so the cable is priced and chosen on it before
+	// routing, as the bill buys it.
+	indoorTo, indoorFrom := endIndoorM(s, lay, l.To), endIndoorM(s, lay, l.From)
+	insideTo := s.RiserM(l.To) + d.SlackM + d.SlackLoopEntranceM + indoorTo
+	insideFrom := s.RiserM(l.From) + d.SlackM + d.SlackLoopEntranceM + indoorFrom
 	facts := media.Link{ID: l.ID, RiserM: riser, SlackM: slack, RateGbps: rate, FutureRateGbps: future,
 		MaxEMI: geo.EMINone, ConnectorPairs: ConnectorPairs, Strands: strands, CopperCables: CopperCables(l.Strands, l.Growth),
 		InsideAM: insideTo, InsideBM: insideFrom, EndA: l.To, EndB: l.From}
-	info := demandInfo{facts: facts, rate: rate, strands: strands}
+	info := demandInfo{facts: facts, rate: rate, strands: strands, indoorTo: indoorTo, indoorFrom: indoorFrom}
 	dm := optimize.Demand{ID: l.ID, Source: int(srcN), Target: int(dstN), Diverse: l.Diverse}
 	if !okS || !okD {
 		return dm, info // no entrance: no option, so no route (the reason comes from the site, route.Result.cutOff)
@@ -911,6 +924,7 @@ func (m *Model) reachWithJoinsM(s *site.Site, medium string, lay media.Laying, r
 type cableKey struct {
 	medium                       string
 	rate, future, riserM, slackM float64
+	insideA, insideB             float64 // the ends' inside metres, which the rule entrance-15m judges each
 	strands                      int
 }
 
@@ -924,7 +938,7 @@ type cabled struct {
 // risers and slackM of slack, and the laying it prices (media.Engine.CableLayingFor),
 // remembered per plan.
 func (m *Model) cableFor(medium string, rate float64, facts media.Link, slackM float64) (media.Laying, int64) {
-	k := cableKey{medium, rate, facts.FutureRateGbps, facts.RiserM, slackM, facts.Strands}
+	k := cableKey{medium, rate, facts.FutureRateGbps, facts.RiserM, slackM, facts.InsideAM, facts.InsideBM, facts.Strands}
 	if v, ok := m.cableMemo[k]; ok {
 		return v.laying, v.perM
 	}

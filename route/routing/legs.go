@@ -10,6 +10,7 @@ import (
 	"spanwright/geo"
 	"spanwright/geo/input"
 	"spanwright/media"
+	"spanwright/route/items"
 	"spanwright/route/optimize"
 	"spanwright/route/site"
 )
@@ -41,7 +42,10 @@ type Leg struct {
 	Pathways []string   // pathway IDs in travel order, each once
 	RouteM   float64    // along pathways, laterals at both ends included, in metres
 	LateralM float64    // the laterals alone, in metres
-	RiserM   float64    // risers at both ends, in metres
+	// RiserM is the risers at both ends, in metres: the buildings' (riser_m) and, where a
+	// counted lateral leaves a pole line, the riser down the pole (PoleRiserM of it).
+	RiserM     float64
+	PoleRiserM float64 // the part of RiserM down poles (items.PoleRiserM), outdoors
 	// Outdoor is whether the route leaves the buildings (a span other than a tray, or a
 	// lateral; media.Link.Outdoor): its cable then enters both end buildings from outside.
 	Outdoor  bool
@@ -119,7 +123,8 @@ func (c LegCost) TotalCents() int64 {
 // legsOf turns the optimizer's route of one link into its legs, with media and costs.
 func legsOf(s *site.Site, cm *Model, lay *layout, prob *optimize.Problem, rt *optimize.Route, l *site.Link, info demandInfo, why string, built builtOn) []Leg {
 	from, to := lay.endEntry[l.To], lay.endEntry[l.From]
-	base := Leg{Link: l, RiserM: info.facts.RiserM, LateralM: from.LateralM + to.LateralM, StrandsCable: info.strands}
+	pole := items.PoleRiserM(cm.design, from.LateralM, from.PoleRiser) + items.PoleRiserM(cm.design, to.LateralM, to.PoleRiser)
+	base := Leg{Link: l, RiserM: info.facts.RiserM, PoleRiserM: pole, LateralM: from.LateralM + to.LateralM, StrandsCable: info.strands}
 	primary := base
 	primary.Name = LegPrimary
 	if !rt.Feasible {
@@ -196,6 +201,9 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 	for _, h := range ol.Hops {
 		if x, ok := lay.isExtra(len(s.Net.Spans), h.Edge); ok && x.kind == edgeEntrance {
 			leg.LateralM += x.entry.LateralM
+			pole := items.PoleRiserM(cm.design, x.entry.LateralM, x.entry.PoleRiser)
+			leg.RiserM += pole
+			leg.PoleRiserM += pole
 			switch x.building {
 			case leg.Link.To:
 				leg.EntranceTo = x.entry.ID
@@ -211,7 +219,8 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 	plenum := false
 	types := map[string]bool{}
 	seen := map[string]bool{}
-	var pass []int // the nodes of the turn edges the route is passing, in travel order
+	var pass []int                   // the nodes of the turn edges the route is passing, in travel order
+	throughM := map[string]float64{} // metres inside buildings passed through along tunnels and trays across them (geo.Span.Through)
 	for k, h := range ol.Hops {
 		x, extra := lay.isExtra(len(s.Net.Spans), h.Edge)
 		if extra && x.kind == edgeTurn {
@@ -235,8 +244,15 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 			continue
 		}
 		sp := &s.Net.Spans[h.Edge]
-		// The buildings the span runs beneath wall to wall (geo.Span.Beneath), in travel order.
+		// The buildings the span runs beneath wall to wall (geo.Span.Beneath), or, a tunnel or
+		// tray, across inside them (geo.Span.Through), in travel order.
 		beneath := sp.Beneath
+		for _, c := range sp.Through {
+			beneath = append(slices.Clip(beneath), c.Building)
+			if c.Building != leg.Link.To && c.Building != leg.Link.From {
+				throughM[c.Building] += c.LengthM
+			}
+		}
 		if !h.Forward && len(beneath) > 1 {
 			beneath = slices.Clone(beneath)
 			slices.Reverse(beneath)
@@ -272,13 +288,21 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 		}
 	}
 	facts := info.facts
-	facts.RouteM = leg.RouteM
+	facts.RouteM, facts.RiserM = leg.RouteM, leg.RiserM
 	// The spans of the route drawn inside an end's building are inside it too, and so is the
 	// route from that end back to where it crosses the building's wall.
-	facts.InsideAM += interiorM(s, leg.Link.To, ol) + indoorM(s, leg.Link.To, ol, true)
-	facts.InsideBM += interiorM(s, leg.Link.From, ol) + indoorM(s, leg.Link.From, ol, false)
-	for _, b := range leg.Crosses {
-		facts.CrossedInsideM += interiorM(s, b, ol)
+	// (The demand counted the stretch every route takes, endIndoorM: the route's own replaces it.)
+	facts.InsideAM += interiorM(s, leg.Link.To, ol) + indoorM(s, leg.Link.To, ol, true) - info.indoorTo
+	facts.InsideBM += interiorM(s, leg.Link.From, ol) + indoorM(s, leg.Link.From, ol, false) - info.indoorFrom
+	// Inside a building the route passes through: its pathways drawn inside it and the
+	// tunnels and trays across it (NFPA 70 770.48(A) counts from the wall where the cable
+	// enters it; the rule through-15m), each building once however often it is crossed.
+	for _, b := range slices.Compact(slices.Sorted(slices.Values(leg.Crosses))) {
+		in := interiorM(s, b, ol) + throughM[b]
+		facts.CrossedInsideM += in
+		if in > facts.CrossedInsideMaxM {
+			facts.CrossedInsideMaxM, facts.CrossedBuilding = in, b
+		}
 	}
 	facts.MaxEMI, facts.EMISpans = emi, spansText(emiSpans)
 	facts.Outdoor, leg.Outdoor = outdoor, outdoor
@@ -536,6 +560,59 @@ func indoorM(s *site.Site, b string, ol optimize.Leg, first bool) float64 {
 		}
 	}
 	return m
+}
+
+// endIndoorM is the metres inside building b, from its wall to its entrance inside it, along
+// the tunnel or tray that every route from b takes (indoorM on any route): b has one entrance
+// (layout.endEntry), at the end of one span alone, which runs inside b from there (geo.Span.
+// Indoors), through junctions inside b where it carries on into one span alone, to the wall.
+// Where routes may leave otherwise (several entrances, pathways meeting at the entrance or
+// inside b, a pathway drawn inside b) it is 0, and fillLeg counts the route's own alone. The
+// demand counts it in the end's inside metres, so the optimizer prices and the rules choose
+// the cable on what every route will have there (the bill's inside cable of a transition).
+func endIndoorM(s *site.Site, lay *layout, b string) float64 {
+	e, ok := lay.endEntry[b]
+	if !ok || e.LateralM > 0 {
+		return 0
+	}
+	var interior []string
+	if t, ok := s.Net.TransitOf(b); ok {
+		interior = t.Interior
+	}
+	j, prev, m := e.Junction, "", 0.0
+	for range s.Net.Spans { // each span at most once: the walk ends at the wall or a fork
+		mt, ok := s.Net.MeetingAt(j)
+		if !ok {
+			return 0
+		}
+		next, n := "", 0
+		for _, id := range mt.Spans {
+			if id != prev {
+				next, n = id, n+1
+			}
+		}
+		if n != 1 {
+			return 0
+		}
+		sp, ok := s.Net.Span(next)
+		if !ok || slices.Contains(interior, sp.PathwayID) {
+			return 0
+		}
+		atTo := sp.To == j
+		in, inside := sp.IndoorM(b, atTo)
+		if !inside {
+			return m
+		}
+		m += in
+		if in < sp.LengthM {
+			return m // the wall crossing
+		}
+		prev, j = next, sp.From
+		if !atTo {
+			j = sp.To
+		}
+	}
+	return 0
 }
 
 // sharedJunctions lists, in a's travel order, the junctions both legs pass between their

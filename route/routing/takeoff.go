@@ -26,8 +26,10 @@ type CableTakeoff struct {
 	Structures      int
 	AddedStructures int
 	StructureLoopM  float64 // slack loops at those structures
-	// SpliceSlackM is the splicing slack at the mid-span joins (spliceSlackM: design.splice_slack_m
-	// at each of the two cable ends a join makes), coiled in the structure with the closure.
+	// SpliceSlackM is the slack the mid-span joins add, each its SplicePoint.SlackM
+	// (joinSlackM: design.splice_slack_m at each of the two cable ends a join makes, less the
+	// slack loop a join in a structure passed stands for), coiled in the structure with the
+	// closure.
 	SpliceSlackM float64
 	// ChannelM is route (laterals included) + risers + every slack loop and the splicing
 	// slack: the length the loss budget counts.
@@ -107,25 +109,35 @@ func (t CableTakeoff) SlackM() float64 {
 	return t.EndSlackM + t.EntranceLoopM + t.StructureLoopM + t.SpliceSlackM
 }
 
-// SlackAtJoinM is the splicing slack of one join, both cable ends, in metres: 2 ×
-// design.splice_slack_m (0 without joins), coiled in the join's structure with the closure.
-func (t CableTakeoff) SlackAtJoinM() float64 {
-	if t.Joins == 0 {
-		return 0
-	}
-	return t.SpliceSlackM / float64(t.Joins)
-}
-
 // beforeJoinsM is the channel without the splicing slack at the joins, in metres: what the
 // structures passed and the spans are placed along (SplicePoint.ChannelM), and what placeJoins
 // places the joins over.
 func (t CableTakeoff) beforeJoinsM() float64 { return t.ChannelM - t.SpliceSlackM }
 
-// spliceSlackM is the splicing slack, in metres, of a cable with joins mid-span joins:
-// design.splice_slack_m at each of the two cable ends each join makes. The one figure the
-// takeoff (setReels), the joins by length (reels, joinsUpToM) and the optimizer's reach
-// (Model.reachWithJoinsM) count.
-func spliceSlackM(d plan.Design, joins int) float64 { return float64(2*joins) * d.SpliceSlackM }
+// joinSlackM is the slack, in metres, one mid-span join adds to a cable's channel beyond its
+// slack loops at structures passed: the splicing slack of its two cable ends, 2 ×
+// design.splice_slack_m (the join is made above ground, and the ends are coiled in the
+// structure with the closure afterwards). A join in a structure the cable passes (inStructure)
+// stores there the larger of that and the structure's slack loop
+// (design.slack_loop_structure_m), once, not both: the cable does not pass through a
+// structure it is joined in, it ends there twice, and the coiled ends are the slack stored
+// there (a crew racks the splicing slack and leaves no loop beside it; common practice, no
+// published source); the loop, counted with the structures passed, is the first metres of it.
+// The one figure of a join's slack: the takeoff (setReels, placeJoins' reel cuts), the
+// structures table (SplicePoint.SlackM) and, for joins by length, which may stand at a
+// reel's end in no structure, the optimizer's reach (spliceSlackM).
+func joinSlackM(d plan.Design, inStructure bool) float64 {
+	ends := 2 * d.SpliceSlackM
+	if !inStructure {
+		return ends
+	}
+	return max(ends, d.SlackLoopStructureM) - d.SlackLoopStructureM
+}
+
+// spliceSlackM is the splicing slack, in metres, of a cable with joins mid-span joins counted
+// by its length (reels, joinsUpToM, Model.reachWithJoinsM), none in a structure: joinSlackM
+// each, an upper bound on what joins placed in structures take (setReels).
+func spliceSlackM(d plan.Design, joins int) float64 { return float64(joins) * joinSlackM(d, false) }
 
 // takeoff measures a routed leg's cable before its medium is known: slack loops, channel,
 // waste and reels. The rule engine then decides on the channel and the reel joins (fed back
@@ -160,7 +172,10 @@ func (t *CableTakeoff) setReels(d plan.Design, splices []SplicePoint, reelsM []f
 	beforeM := t.beforeJoinsM()
 	t.Splices, t.ReelsM = splices, reelsM
 	t.Joins, t.Reels = len(splices), len(reelsM)
-	t.SpliceSlackM = spliceSlackM(d, t.Joins)
+	t.SpliceSlackM = 0
+	for i := range t.Splices {
+		t.SpliceSlackM += t.Splices[i].SlackM
+	}
 	t.ChannelM = beforeM + t.SpliceSlackM
 	t.WasteM = t.ChannelM * d.WastePct / 100
 	var sum float64
@@ -210,6 +225,10 @@ type SplicePoint struct {
 	// the cable (its riser, coil and entrance loop first), the splicing slack at joins before
 	// it not counted (CableTakeoff.beforeJoinsM): where the route puts it.
 	ChannelM float64
+	// SlackM is, for a join (CableTakeoff.Splices), the slack it adds to the channel
+	// (joinSlackM: in a structure passed, what the splicing slack of its two cable ends adds
+	// to the slack loop there), coiled there with the closure; 0 for a structure passed.
+	SlackM float64
 }
 
 // Text is the place as a person reads it, with lengths written by length (the output's units).
@@ -290,6 +309,9 @@ func passesOf(s *site.Site, d plan.Design, leg *Leg, built builtOn) ([]SplicePoi
 	tapTo, tapFrom := tapOf(s, entry), tapOf(s, far)
 	ownTap := func(j string) bool { return j != "" && (j == tapTo || j == tapFrom) }
 	at = s.RiserM(to) + d.SlackM + d.SlackLoopEntranceM + entry.LateralM
+	// A lateral that leaves a pole line comes up the pole from the handhole at its foot (its
+	// tap, the first junction) to the strand; the far end's comes down before its last.
+	poleTo, poleFrom := items.PoleRiserM(d, entry.LateralM, entry.PoleRiser), items.PoleRiserM(d, far.LateralM, far.PoleRiser)
 	juncs := s.JunctionsOf(leg.Steps)
 	atJunction := func(k int) {
 		j := juncs[k]
@@ -302,6 +324,9 @@ func passesOf(s *site.Site, d plan.Design, leg *Leg, built builtOn) ([]SplicePoi
 	}
 	for k, st := range leg.Steps {
 		atJunction(k)
+		if k == 0 {
+			at += poleTo
+		}
 		sp, _ := s.Net.Span(st.SpanID)
 		offs := slices.Clone(built.along[st.SpanID]) // metres from the span's from end
 		slices.Sort(offs)
@@ -324,6 +349,7 @@ func passesOf(s *site.Site, d plan.Design, leg *Leg, built builtOn) ([]SplicePoi
 		at = start + sp.LengthM + float64(len(hh))*d.SlackLoopStructureM
 	}
 	if len(juncs) > 0 {
+		at += poleFrom
 		atJunction(len(juncs) - 1)
 	}
 	return out, spans
@@ -428,24 +454,28 @@ func placeJoins(d plan.Design, passes []SplicePoint, spans []spanOnChannel, chan
 		} else if id, m, end, ok := locate(spans, d.SlackLoopStructureM, p.ChannelM); ok {
 			p.Span, p.AtM, p.End = id, m, end
 		}
+		p.SlackM = joinSlackM(d, !p.NoStructure)
 		splices = append(splices, p)
 		start, headM = p.ChannelM, slackM
 	}
 	if len(splices) == 0 {
 		return nil, []float64{lengthM}
 	}
-	prev := 0.0
+	prev, headM := 0.0, 0.0
 	for i, p := range append(slices.Clone(splices), SplicePoint{ChannelM: channelM}) {
-		pieceM := p.ChannelM - prev + 2*slackM // a reel between two joins
-		if i == 0 || i == len(splices) {
-			pieceM -= slackM // the first and the last have one joined end
+		// A reel starts with the splicing slack of its joined head end and ends with what its
+		// join adds besides (joinSlackM: in a structure, the loop there, which is in the
+		// channel up to p, is the first metres of the tail); the last reel ends at the cable's end.
+		pieceM := p.ChannelM - prev + headM
+		if i < len(splices) {
+			pieceM += p.SlackM - slackM
 		}
 		cutM := math.Ceil(pieceM*(1+d.WastePct/100) - 1e-9)
 		if cutM > d.ReelM { // carried on to a structure on its waste
 			cutM = max(math.Floor(d.ReelM+1e-9), math.Ceil(pieceM-1e-9))
 		}
 		reelsM = append(reelsM, cutM)
-		prev = p.ChannelM
+		prev, headM = p.ChannelM, slackM
 	}
 	return splices, reelsM
 }
