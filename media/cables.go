@@ -178,6 +178,13 @@ func cover(sizes []Size, cents []int64, strands int) (Cables, int64) {
 			avail = append(avail, i)
 		}
 	}
+	if len(avail) == 1 { // one size (a copper construction's 4-pair cable): n of it
+		out := make(Cables, n)
+		for i := range out {
+			out[i] = sizes[avail[0]]
+		}
+		return out, int64(n) * cents[avail[0]]
+	}
 	var (
 		best        []int
 		bestCents   int64

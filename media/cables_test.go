@@ -38,6 +38,7 @@ func TestCables(t *testing.T) {
 		{"dear 144, 432 strands", odd, 432, "2 × 288", 4200, 2}, // 288 + 144 would cost 46.00
 		{"no 12", no12, 300, "288 + 24", 2330, 2},
 		{"below one", book, 0, "12", 140, 1},
+		{"one size priced", []int64{-1, -1, -1, -1, -1, -1, 2100}, 300, "2 × 288", 4200, 2},
 		{"none priced", []int64{-1, -1, -1, -1, -1, -1, -1}, 300, "288 + 12", -1, 2}, // the smallest rest; -1: no price (routing excludes it)
 	} {
 		got, cents := cover(sizes, tc.cents, tc.strands)
@@ -51,6 +52,25 @@ func TestCables(t *testing.T) {
 		if cents != tc.wantCents || len(got.ODsMM()) != tc.wantODs || got.Strands() < tc.strands {
 			t.Errorf("%s: got %d cents, %d cables, %d strands; want %d cents, %d cables, at least %d strands",
 				tc.name, cents, len(got.ODsMM()), got.Strands(), tc.wantCents, tc.wantODs, tc.strands)
+		}
+	}
+}
+
+// TestCablesCopper: a copper construction lists one size, the 4-pair cable (count 1,
+// ANSI/TIA-568.2: one cable per port); a link of 9 port pairs buys 9 of it at 9 × its price.
+func TestCablesCopper(t *testing.T) {
+	t.Parallel()
+	eng, err := NewEngine(nil, nil, nil, EngineOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	m := eng.Catalog().Medium("cat6a")
+	k := m.Construction("outdoor")
+	perM, _ := eng.PriceBook().Price(PriceKey{Item: PriceCable, Medium: "cat6a", Construction: "outdoor", Count: 1})
+	for _, n := range []int{1, 9} {
+		c, cents := eng.Cables(m, k, n)
+		if len(c) != n || c.Strands() != n || cents != int64(n)*perM {
+			t.Errorf("%d cables: got %s at %d cents, want %d at %d", n, c.Text(), cents, n, int64(n)*perM)
 		}
 	}
 }
