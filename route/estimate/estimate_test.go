@@ -199,7 +199,7 @@ func TestReelJoinsInLossBudget(t *testing.T) {
 	joins, splices := 0.0, 0
 	for _, l := range cut.Legs {
 		joins += float64(l.Cable.Joins * len(l.Cable.Cables))
-		splices += l.Cable.Joins * len(l.Cable.Cables) * l.Cable.Cables.Largest().Count
+		splices += l.Cable.Joins * l.Cable.Cables.Strands()
 	}
 	if got := testplan.BOMQty(cut.Estimate.BOM, "splice closure, mid-span join"); got != joins {
 		t.Errorf("closures: got %v, want %v", got, joins)

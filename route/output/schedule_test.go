@@ -164,10 +164,18 @@ func piecesAddUpToBill(t *testing.T, r *route.Result, opt WriteOptions) {
 		if !l.Feasible {
 			continue
 		}
-		piece(media.PriceKey{Item: media.PriceCable, Medium: l.Medium, Construction: l.Construction, Count: l.Cable.Cables.Largest().Count}, l, count(row[cables])*tenths(row[cut]))
+		// Each size on its own bill line (288 + 12: a 288 and a 12 line), the CSV's cables all of them.
+		if count(row[cables]) != int64(len(l.Cable.Cables)) || (l.Inside != "" && count(row[inCables]) != int64(len(l.Cable.InsideCables))) {
+			t.Errorf("%s: cables %s, inside %s; the takeoff's %s and %s", l.Label(), row[cables], row[inCables], l.Cable.Cables.Text(), l.Cable.InsideCables.Text())
+		}
+		for _, lot := range l.Cable.Cables.Lots() {
+			piece(media.PriceKey{Item: media.PriceCable, Medium: l.Medium, Construction: l.Construction, Count: lot.Size.Count}, l, int64(lot.Cables)*tenths(row[cut]))
+		}
 		if l.Inside != "" {
 			transitions++
-			piece(media.PriceKey{Item: media.PriceCable, Medium: l.Medium, Construction: l.Inside, Count: l.Cable.InsideCables.Largest().Count}, l, count(row[inCables])*(tenths(row[inTo])+tenths(row[inFrom])))
+			for _, lot := range l.Cable.InsideCables.Lots() {
+				piece(media.PriceKey{Item: media.PriceCable, Medium: l.Medium, Construction: l.Inside, Count: lot.Size.Count}, l, int64(lot.Cables)*(tenths(row[inTo])+tenths(row[inFrom])))
+			}
 		}
 	}
 	if transitions == 0 {
