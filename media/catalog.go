@@ -137,6 +137,17 @@ func (c *Construction) PullRatingN(s Size) float64 {
 	return c.MaxPullN
 }
 
+// AttenuationText is the construction's maximum cabled attenuation at each wavelength, as the
+// outputs print it beside a loss budget: "0.50 dB/km at 1310 nm, 0.50 dB/km at 1550 nm"; ""
+// for copper.
+func (c *Construction) AttenuationText() string {
+	parts := make([]string, len(c.Attenuation))
+	for i, a := range c.Attenuation {
+		parts[i] = fmt.Sprintf("%.2f dB/km at %d nm", a.DBPerKm, a.WavelengthNM)
+	}
+	return strings.Join(parts, ", ")
+}
+
 // AttenDBPerKm is the maximum cabled attenuation at wavelength nm, in dB/km, and whether the
 // catalog gives one.
 func (c *Construction) AttenDBPerKm(nm int) (float64, bool) {
@@ -146,22 +157,6 @@ func (c *Construction) AttenDBPerKm(nm int) (float64, bool) {
 		}
 	}
 	return 0, false
-}
-
-// Fit returns the smallest size holding count strands (or copper cables) in one cable and
-// the number of such cables; when no size is large enough it returns the largest size and
-// as many cables of it as needed. A count below 1 is taken as 1.
-func (c *Construction) Fit(count int) (Size, int) {
-	if count < 1 {
-		count = 1
-	}
-	for _, s := range c.Sizes {
-		if s.Count >= count {
-			return s, 1
-		}
-	}
-	big := c.Sizes[len(c.Sizes)-1]
-	return big, (count + big.Count - 1) / big.Count
 }
 
 // BendRadiusMM is the minimum bend radius in mm of cable size s, with no load or at rated
@@ -882,13 +877,16 @@ func (c checker) application(ay applicationYAML, item string, cat *Catalog, decl
 // Table writes the reach-and-loss table: one row per application and medium, in catalog
 // order, with rate, operating wavelengths, fibres or cables used, operating range in metres,
 // maximum channel insertion loss in dB, the least loss the receiver takes in dB and the
-// medium's TIA-598 jacket colour; then the connection losses (field and design), the margin
-// policy and the grades that meet lower ones. rateGbps 0 lists every rate; any other rate
+// medium's TIA-598 jacket colour; then the maximum cabled attenuation in dB/km at each
+// wavelength of each fibre medium listed, by construction, which every loss budget counts;
+// then the connection losses
+// (field and design), the margin policy and the grades that meet lower ones. rateGbps 0 lists every rate; any other rate
 // must be one the catalog offers.
 func (c *Catalog) Table(w io.Writer, rateGbps float64) error {
 	if rateGbps != 0 && !containsRate(c.Rates(), rateGbps) {
 		return input.Errorf(ErrBadValue, "no application runs at %s; the catalog has %s", FormatRate(rateGbps), rateList(c.Rates()))
 	}
+	shown := map[string]bool{} // the media the table lists
 	tw := tabwriter.NewWriter(w, 0, 8, 2, ' ', 0)
 	fmt.Fprintln(tw, "application\trate\twavelength nm\tuses\tmedium\trange m\tmax channel loss dB\tmin channel loss dB\tjacket")
 	for _, a := range c.Applications {
@@ -910,7 +908,41 @@ func (c *Catalog) Table(w io.Writer, rateGbps float64) error {
 			if m.JacketColour != "" {
 				jacket = m.JacketColour
 			}
+			shown[m.ID] = true
 			fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%.0f\t%s\t%s\t%s\n", a.Name, FormatRate(a.RateGbps), wl, uses, m.ID, r.RangeM, loss, least, jacket)
+		}
+	}
+	if err := tw.Flush(); err != nil {
+		return err
+	}
+	// The attenuation every loss budget counts, a table of its own (its columns are not the
+	// applications'), when the table lists a fibre medium.
+	fibre := false
+	for _, m := range c.Media {
+		fibre = fibre || (m.Fibre() && shown[m.ID])
+	}
+	tw = tabwriter.NewWriter(w, 0, 8, 2, ' ', 0)
+	if fibre {
+		fmt.Fprintln(tw)
+		fmt.Fprintln(tw, "medium\tconstructions\tmax cabled attenuation, which every loss budget counts")
+	}
+	for _, m := range c.Media {
+		if !m.Fibre() || !shown[m.ID] {
+			continue
+		}
+		// The constructions of one attenuation together, in catalog order of the first.
+		var texts []string
+		ids := map[string][]string{}
+		for _, k := range m.Constructions {
+			if t := k.AttenuationText(); t != "" {
+				if ids[t] == nil {
+					texts = append(texts, t)
+				}
+				ids[t] = append(ids[t], k.ID)
+			}
+		}
+		for _, t := range texts {
+			fmt.Fprintf(tw, "%s\t%s\t%s\n", m.ID, strings.Join(ids[t], ", "), t)
 		}
 	}
 	if err := tw.Flush(); err != nil {

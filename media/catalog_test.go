@@ -174,6 +174,10 @@ func TestCatalogTIA5683D(t *testing.T) {
 func TestCatalogMechanical(t *testing.T) {
 	t.Parallel()
 	c := DefaultCatalog()
+	eng, err := NewEngine(c, nil, nil, EngineOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
 	cases := []struct {
 		name, medium, construction string
 		unloadedOD, loadedOD       float64
@@ -204,27 +208,38 @@ func TestCatalogMechanical(t *testing.T) {
 			wantN                float64
 		}{{"os2", "indoor-outdoor", 12, 1335}, {"om4", "indoor-outdoor", 6, 1335}, {"os2", "indoor-outdoor", 24, 2670},
 			{"os2", "osp-loose-tube", 12, 2670}, {"os2", "ofnr-riser", 12, 1335}} {
-			k := c.Medium(tc.medium).Construction(tc.construction)
-			s, _ := k.Fit(tc.strands)
+			m := c.Medium(tc.medium)
+			k := m.Construction(tc.construction)
+			cables, _ := eng.Cables(m, k, tc.strands)
+			s := cables.Largest()
 			if got := k.PullRatingN(s); got != tc.wantN {
 				t.Errorf("%s %s, %d strands (size %d): rated %g N, want %g N", tc.medium, tc.construction, tc.strands, s.Count, got, tc.wantN)
 			}
 		}
 	})
 	t.Run("bend radius in mm", func(t *testing.T) {
-		k := c.Medium("os2").Construction("osp-loose-tube")
-		s, n := k.Fit(24)
+		m := c.Medium("os2")
+		k := m.Construction("osp-loose-tube")
+		cables, _ := eng.Cables(m, k, 24)
+		s, n := cables.Largest(), len(cables)
 		// computed: 20 x 10.5 mm loaded, 10 x 10.5 mm unloaded (OD is a typical manufacturer value)
 		if n != 1 || s.Count != 24 || k.BendRadiusMM(s, true) != 210 || k.BendRadiusMM(s, false) != 105 {
 			t.Errorf("got size %d x%d, %g/%g mm, want 24 x1, 210/105 mm", s.Count, n, k.BendRadiusMM(s, true), k.BendRadiusMM(s, false))
 		}
 	})
-	t.Run("fit", func(t *testing.T) {
-		k := c.Medium("om4").Construction("ofnr-riser")
-		for _, tc := range []struct{ strands, size, cables int }{{0, 12, 1}, {2, 12, 1}, {13, 24, 1}, {288, 288, 1}, {300, 288, 2}, {600, 288, 3}} {
-			s, n := k.Fit(tc.strands)
-			if s.Count != tc.size || n != tc.cables {
-				t.Errorf("fit %d strands: got %d x%d, want %d x%d", tc.strands, s.Count, n, tc.size, tc.cables)
+	t.Run("cables", func(t *testing.T) {
+		// The demo book prices every size dearer than the next smaller one, so the cheapest set
+		// of the fewest cables is the smallest size that holds the strands, with the largest
+		// sizes before it beyond the largest (the catalog's TIA-598 common-practice counts).
+		m := c.Medium("om4")
+		k := m.Construction("ofnr-riser")
+		for _, tc := range []struct {
+			strands int
+			want    string
+		}{{0, "12"}, {2, "12"}, {13, "24"}, {288, "288"}, {300, "288 + 12"}, {576, "2 × 288"}, {600, "288 + 288 + 24"}} {
+			cables, _ := eng.Cables(m, k, tc.strands)
+			if got := cables.Text(); got != tc.want {
+				t.Errorf("%d strands: got %s, want %s", tc.strands, got, tc.want)
 			}
 		}
 	})

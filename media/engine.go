@@ -69,6 +69,9 @@ type Engine struct {
 	chosen *lru.Cache[chooseKey, Choice]
 	// reachID digests what MaxChannelM depends on besides its arguments (ReachMemo).
 	reachID [32]byte
+	// oneCable is Cables of every construction of the catalog for the strands one cable of
+	// its largest size holds (oneCables).
+	oneCable map[*Construction][]covered
 }
 
 // chooseCacheSize bounds the choices an engine remembers: about a hundred scenarios' legs
@@ -116,7 +119,12 @@ func NewCheckEngine(c *Catalog, r *Rules, p *PriceBook, opt EngineOptions) (*Eng
 		design:      Connections{PairDB: c.DesignPairDB, SpliceDB: c.DesignSpliceDB},
 		field:       Connections{PairDB: c.MatedPairDB, SpliceDB: c.SpliceDB},
 		termination: p.Termination, margins: c.Margins, cordsM: defaultCopperCordsM,
-		attenuators: sortedAttenuators(p)}
+		attenuators: sortedAttenuators(p), oneCable: map[*Construction][]covered{}}
+	for _, m := range c.Media {
+		for _, k := range m.Constructions {
+			e.oneCable[k] = oneCables(p, m, k)
+		}
+	}
 	if e.termination == "" {
 		e.termination = TerminationSplicedPigtail
 	}
@@ -292,8 +300,10 @@ type candidate struct {
 	nFailed    int    // how many rules it fails
 	prefer     []bool // per prefer rule, in rule order
 	costCents  int64
-	cableCents int64 // the cable part of costCents, transition enclosures and trays included
-	strands    int
+	cableCents int64  // the cable part of costCents, transition enclosures and trays included
+	strands    int    // strands (4-pair cables on copper) the link needs of the application
+	cables     Cables // what construction k buys for them (Engine.Cables)
+	perMCents  int64  // the cables' price per metre, all of them
 
 	// inside, when not nil, makes this a transition candidate: outside-plant construction k
 	// is spliced to inside at the entrances of at, and inside takes what runs inside those
@@ -308,15 +318,19 @@ type candidate struct {
 }
 
 // label names the candidate's cable: its construction, with the number of cables in front
-// when the strands need more than one ("9 × outdoor"), and for copper why so many: one 4-pair
+// when the strands need more than one ("9 × outdoor") and their strand counts when they differ
+// ("2 × osp-loose-tube (288 + 12 strands)"), and for copper why so many: one 4-pair
 // cable per port pair (copperCables) — a reason that prices copper against fibre otherwise
 // hides that a 22 m copper run costs nine cables (tester 10's finding 15); and the inside
 // construction it is spliced to and where ("at both entrances", "at the entrance of CAF").
 // The end facts (end_a, end_b) must be set.
 func (c *candidate) label() string {
 	id := c.k.ID
-	if _, n := c.k.Fit(c.strands); n > 1 {
+	if n := len(c.cables); n > 1 {
 		id = fmt.Sprintf("%d × %s", n, id)
+		if c.cables.Mixed() {
+			id += " (" + c.cables.Text() + " strands)"
+		}
 		if c.m.Kind == KindCopper {
 			id += " (one 4-pair cable per port pair)"
 		}
@@ -469,6 +483,7 @@ func (e *Engine) evaluate(c *candidate, l Link, at lengths, mi, ai, ki int, v va
 	prefer := c.prefer[:0] // a candidate evaluated again (feasibleAt's scratch) keeps its array
 	*c = candidate{m: m, a: a, k: k, mi: mi, ai: ai, ki: ki, failed: -1, strands: strandsFor(l, a, m),
 		lossK: k, splices: l.Splices + e.termSplices(m), prefer: prefer}
+	c.cables, c.perMCents = e.Cables(m, k, c.strands)
 	if v.inside != nil {
 		c.inside, c.at, c.splices = v.inside, v.at, c.splices+v.at.Count()
 		ia, ib := l.transitionInsideM(channel, v.at)
@@ -638,9 +653,9 @@ func (e *Engine) future(l Link, c *candidate) {
 	}
 }
 
-// cost is the installed cost of a candidate, in cents: cable per metre (all cables needed
-// for the strands) times the channel length, one termination per strand (per 4-pair cable
-// for copper) at each end, and one transceiver at each end. Two transceivers serve the link
+// cost is the installed cost of a candidate, in cents: cable per metre (all cables bought
+// for the strands, Engine.Cables) times the channel length, one termination per strand
+// (per 4-pair cable for copper) at each end, and one transceiver at each end. Two transceivers serve the link
 // whether the PHY is duplex (2 fibres) or parallel (8 fibres in one module each end).
 // Labour, pathway and enclosures are not part of it. With a transition, the inside cable is
 // l's (Link.transitionInsideM) at the candidate's ends.
@@ -648,9 +663,10 @@ func (e *Engine) cost(c *candidate, channelM float64, l Link) (cableCents, total
 	p := e.layingPrice(c.m, c.k, c.inside, c.at, c.strands)
 	term, _ := e.prices.Price(PriceKey{Item: PriceTermination, Medium: c.m.ID})
 	trx, _ := e.prices.Price(PriceKey{Item: PriceTransceiver, Name: c.a.Transceiver})
+	ends := 2 * int64(c.strands)
 	if c.inside == nil {
 		cableCents = MulCents(p.PerMCents, channelM)
-		return cableCents, cableCents + 2*int64(c.strands)*term + 2*trx + c.b.attCents
+		return cableCents, cableCents + ends*term + 2*trx + c.b.attCents
 	}
 	// Outside-plant cable to the entrances of the transition, inside cable inside those
 	// buildings, and at each such entrance an enclosure with trays for every strand of the
@@ -659,38 +675,36 @@ func (e *Engine) cost(c *candidate, channelM float64, l Link) (cableCents, total
 	insideM := ia + ib
 	cableCents = MulCents(p.PerMCents, channelM-insideM) + MulCents(p.InsidePerMCents, insideM) + p.HardwareCents
 	c.labourCents = p.LabourCents
-	return cableCents, cableCents + c.labourCents + 2*int64(c.strands)*term + 2*trx + c.b.attCents
+	return cableCents, cableCents + c.labourCents + ends*term + 2*trx + c.b.attCents
 }
 
 // LayingPrice is what a laying's cable costs apart from its length: the prices routing puts
 // on a route and on its ends, from the same function as Choose's cost.
 type LayingPrice struct {
-	PerMCents       int64 // the construction's cable per metre, all the cables the strands need
+	PerMCents       int64 // the construction's cable per metre, all the cables the strands buy (Engine.Cables)
 	InsidePerMCents int64 // with a transition, the inside construction's per metre, all its cables; 0 without
 	HardwareCents   int64 // with a transition, the enclosures and splice trays at the entrances of its ends; 0 without
 	LabourCents     int64 // with a transition, splicing every strand at the entrances of its ends; 0 without
 	InsideCables    int   // with a transition, the cables of the inside construction at each of its ends; 0 without
 }
 
-// layingPrice prices construction k of medium m for strands strands, spliced to inside at
-// the entrances of at when inside is not nil: at each, one enclosure per outside cable and
-// trays for every strand it holds (transition_splice_each, splice_tray), and the splicing at
-// the book's splices per hour.
+// layingPrice prices construction k of medium m for strands strands (the cables Engine.Cables
+// buys), spliced to inside at the entrances of at when inside is not nil: at each, one
+// enclosure per outside cable and trays for every strand it holds (transition_splice_each,
+// splice_tray; Cables.Trays), and the splicing at the book's splices per hour.
 func (e *Engine) layingPrice(m *Medium, k, inside *Construction, at Ends, strands int) LayingPrice {
-	size, n := k.Fit(strands)
-	perM, _ := e.prices.Price(PriceKey{Item: PriceCable, Medium: m.ID, Construction: k.ID, Count: size.Count})
-	p := LayingPrice{PerMCents: perM * int64(n)}
+	cables, perM := e.Cables(m, k, strands)
+	p := LayingPrice{PerMCents: max(perM, 0)} // a check engine's book may price none of them
 	if inside == nil {
 		return p
 	}
-	inSize, inN := inside.Fit(strands)
-	inPerM, _ := e.prices.Price(PriceKey{Item: PriceCable, Medium: m.ID, Construction: inside.ID, Count: inSize.Count})
+	in, inPerM := e.Cables(m, inside, strands)
 	encl, _ := e.prices.Price(PriceKey{Item: PriceTransition})
 	tray, _ := e.prices.Price(PriceKey{Item: PriceSpliceTray})
-	spliced := size.Count * n
-	p.InsidePerMCents, p.InsideCables = inPerM*int64(inN), inN
+	spliced := cables.Strands()
+	p.InsidePerMCents, p.InsideCables = max(inPerM, 0), len(in)
 	ends := at.Count()
-	p.HardwareCents = int64(ends) * (int64(n)*encl + int64(e.prices.TraysFor(spliced))*tray)
+	p.HardwareCents = int64(ends) * (int64(len(cables))*encl + int64(cables.Trays(e.prices))*tray)
 	if hour, ok := e.prices.Price(PriceKey{Item: PriceLabourHour}); ok {
 		if rate, ok := e.prices.Rate(PriceKey{Item: RateSplice}); ok && rate > 0 {
 			p.LabourCents = int64(math.Round(float64(ends*spliced) / rate * float64(hour)))
@@ -778,6 +792,7 @@ func keyOf(l Link) chooseKey {
 func (c Choice) clone() Choice {
 	c.Losses = slices.Clone(c.Losses)
 	c.Rejected = slices.Clone(c.Rejected)
+	c.Cables, c.InsideCables = slices.Clone(c.Cables), slices.Clone(c.InsideCables)
 	return c
 }
 
@@ -836,13 +851,14 @@ func (e *Engine) choose(l Link) Choice {
 		win = ok[0]
 		ch = Choice{Feasible: true, Medium: win.m.ID, Application: win.a.Name, Construction: win.k.ID,
 			Losses: win.losses, CostCents: win.costCents,
-			CableCents: win.cableCents, LabourCents: win.labourCents, Strands: win.strands,
+			CableCents: win.cableCents, LabourCents: win.labourCents, Strands: win.strands, Cables: win.cables,
 			Attenuators: win.b.attN, AttenuatorDB: win.b.attDB, AttenuatorCents: win.b.attCents, RepairSplices: win.repair}
 		if win.m.Fibre() {
 			ch.Termination = e.termination
 		}
 		if win.inside != nil {
 			ch.Inside, ch.InsideAt = win.inside.ID, win.at
+			ch.InsideCables, _ = e.Cables(win.m, win.inside, win.strands)
 			ch.InsideAM, ch.InsideBM = l.transitionInsideM(at.channelM, win.at)
 			ch.InsideM = ch.InsideAM + ch.InsideBM
 		}
@@ -1370,10 +1386,8 @@ func (e *Engine) constructionFor(m *Medium, strands int, outdoor bool) (*Constru
 		if (outdoor && !k.OutdoorRated) || (!outdoor && k.Listing == "") {
 			continue
 		}
-		size, n := k.Fit(strands)
-		perM, ok := e.prices.Price(PriceKey{Item: PriceCable, Medium: m.ID, Construction: k.ID, Count: size.Count})
-		if ok && perM*int64(n) < bestCents {
-			best, bestCents = k, perM*int64(n)
+		if _, perM := e.Cables(m, k, strands); perM >= 0 && perM < bestCents {
+			best, bestCents = k, perM
 		}
 	}
 	return best, bestCents
@@ -1403,7 +1417,7 @@ func (e *Engine) mustMedium(id string) *Medium {
 
 // CablePerMCents is the price in cents per metre of cable for strands strands (counted as
 // in Link.Strands: on copper, one 4-pair cable per two strands) of medium: the cheapest outdoor-rated construction when outdoor, else
-// the cheapest listed (riser or plenum) one, with as many cables as the largest size needs.
+// the cheapest listed (riser or plenum) one, all the cables it buys (Engine.Cables).
 // It is a lower bound of what Choose prices, for routing. It returns -1 when the medium has
 // no such construction, and panics on a medium not in the catalog.
 func (e *Engine) CablePerMCents(medium string, strands int, outdoor bool) int64 {
@@ -1443,9 +1457,8 @@ func (e *Engine) CableLayingFor(medium string, rateGbps float64, l Link) (Laying
 		if m.Kind == KindCopper {
 			strands = copperCables(l)
 		}
-		size, n := k.Fit(strands)
-		if perM, ok := e.prices.Price(PriceKey{Item: PriceCable, Medium: m.ID, Construction: k.ID, Count: size.Count}); ok {
-			ks = append(ks, priced{ki, perM * int64(n)})
+		if _, perM := e.Cables(m, k, strands); perM >= 0 {
+			ks = append(ks, priced{ki, perM})
 		}
 	}
 	slices.SortStableFunc(ks, func(a, b priced) int { return cmp.Compare(a.perM, b.perM) })
@@ -1459,10 +1472,7 @@ search:
 				continue
 			}
 			if e.evaluate(&c, l, at, mi, ai, k.ki, variant{}); c.failed < 0 {
-				size, n := m.Constructions[k.ki].Fit(c.strands)
-				if perM, ok := e.prices.Price(PriceKey{Item: PriceCable, Medium: m.ID, Construction: m.Constructions[k.ki].ID, Count: size.Count}); ok {
-					best, lay = perM*int64(n), layingOf(m.Constructions[k.ki], variant{})
-				}
+				best, lay = c.perMCents, layingOf(m.Constructions[k.ki], variant{})
 				break search
 			}
 		}

@@ -516,7 +516,7 @@ func TestCostParts(t *testing.T) {
 		{"os2 12 outdoor is OSP", "os2", 12, true, 143},
 		{"os2 12 indoor is riser", "os2", 12, false, 168},
 		{"os2 13 takes the 24", "os2", 13, false, 272},
-		{"os2 300 takes two 288s", "os2", 300, true, 2 * 2142},
+		{"os2 300 takes 288 + 12", "os2", 300, true, 2142 + 143}, // the cheapest set of two cables (Engine.Cables), not two 288s
 		{"cat6a 8 strands are 4 cables", "cat6a", 8, false, 4 * 95},
 		{"cat6a outdoor", "cat6a", 1, true, 160},
 		{"om4 0 strands", "om4", 0, false, 262},

@@ -65,6 +65,13 @@ func ExampleCatalog_Table() {
 	// 40GBASE-SR4  40G   850            8 fibres  om4     150      1.50                 0.00                 aqua
 	// 40GBASE-SR4  40G   850            8 fibres  om5     150      1.50                 0.00                 lime green
 	// 40GBASE-LR4  40G   1310           2 fibres  os2     10000    6.70                 0.00                 yellow
+	//
+	// medium  constructions                                            max cabled attenuation, which every loss budget counts
+	// om3     ofnr-riser, ofnp-plenum, indoor-outdoor, osp-loose-tube  3.50 dB/km at 850 nm, 1.50 dB/km at 1300 nm
+	// om4     ofnr-riser, ofnp-plenum, indoor-outdoor, osp-loose-tube  3.50 dB/km at 850 nm, 1.50 dB/km at 1300 nm
+	// om5     ofnr-riser, ofnp-plenum, indoor-outdoor, osp-loose-tube  3.50 dB/km at 850 nm, 1.50 dB/km at 1300 nm
+	// os2     ofnr-riser, ofnp-plenum                                  1.00 dB/km at 1310 nm, 1.00 dB/km at 1550 nm
+	// os2     indoor-outdoor, osp-loose-tube                           0.50 dB/km at 1310 nm, 0.50 dB/km at 1550 nm
 	// connections: field acceptance (ANSI/TIA-568.3-D maxima) mated pair 0.75 dB, splice 0.30 dB; design mated pair 0.50 dB, splice 0.30 dB
 	// margins: multimode 0.00 dB; single-mode 0.50 dB and an allowance of 0.5 repair splices per km of outside plant
 	// higher grades: om4 also uses om3's figures; om5 also uses om4's figures

@@ -121,6 +121,10 @@ func (l Link) ChannelM() float64 { return l.RouteM + l.RiserM + l.SlackM }
 // 1550 nm); LimitDB and MarginDB apply only where the application operates.
 type Loss struct {
 	WavelengthNM int
+	// AttenDBPerKm is the cabled attenuation the budget counts at this wavelength, in dB/km:
+	// the construction's maximum (the catalog's attenuation_db_per_km); with an entrance
+	// transition, the outside and inside constructions' mixed by their lengths in the channel.
+	AttenDBPerKm float64
 	LossDB       float64 // cabled attenuation × length + connections + splices
 	LimitDB      float64 // the application's maximum channel insertion loss; 0 when !Operating
 	MarginDB     float64 // LimitDB − LossDB; 0 when !Operating
@@ -188,8 +192,11 @@ type Choice struct {
 	// riser, service coil, entrance loop, in-building trays) where InsideAt has the end, 0
 	// elsewhere; InsideM is their sum; all 0 without.
 	InsideAM, InsideBM, InsideM float64
-	Strands                     int    // strands terminated at each end (4-pair cables for copper)
-	Termination                 string // how fibre strand ends are terminated (a Termination* constant); "" for copper
+	Strands                     int // strands terminated at each end (4-pair cables for copper), which Cables hold
+	// Cables is the cables of Construction the link buys (Engine.Cables), largest first, and
+	// InsideCables, with an entrance transition, those of Inside; nil without.
+	Cables, InsideCables Cables
+	Termination          string // how fibre strand ends are terminated (a Termination* constant); "" for copper
 	// Attenuators is the number of fixed attenuators of AttenuatorDB dB each (one at every
 	// receiver) the PHY needs on this short a channel, priced at AttenuatorCents in CostCents;
 	// see AttenuatorQuantity.

@@ -56,6 +56,7 @@ func Losses(k *Construction, a *Application, r Reach, lengthM float64, pairs, sp
 		cabling := roundDB(LossDB(at.DBPerKm, lengthM, pairs, splices, field.PairDB, field.SpliceDB))
 		l := Loss{
 			WavelengthNM:   at.WavelengthNM,
+			AttenDBPerKm:   at.DBPerKm,
 			LossDB:         roundDB(LossDB(at.DBPerKm, lengthM, pairs, splices, design.PairDB, design.SpliceDB)),
 			FieldLimitDB:   cabling,
 			CablingLimitDB: cabling,

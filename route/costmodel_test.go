@@ -211,12 +211,20 @@ func modelGap(t *testing.T, r *route.Result) (billOnly, modelOnly int64) {
 		if l.Inside != "" && !strings.Contains(l.Option, " as "+l.Construction+" + "+l.Inside) {
 			t.Fatalf("leg %s %s: %s spliced to %s, routed in option %q, not one priced as that", l.Link.ID, l.Name, l.Construction, l.Inside, l.Option)
 		}
-		if max(opt.Cables, 1) != l.Cable.Cables {
-			t.Fatalf("leg %s %s: %d cables, the model's %d", l.Link.ID, l.Name, l.Cable.Cables, opt.Cables)
+		if max(opt.Cables, 1) != len(l.Cable.Cables) {
+			t.Fatalf("leg %s %s: %d cables, the model's %d", l.Link.ID, l.Name, len(l.Cable.Cables), opt.Cables)
 		}
 		perM := opt.CablePerMCents // all of the leg's cables
-		if price, _ := p.Price(media.PriceKey{Item: media.PriceCable, Medium: l.Medium, Construction: l.Construction, Count: l.Cable.Size.Count}); price*int64(l.Cable.Cables) != perM {
-			t.Fatalf("leg %s %s: %d × %s at %d cents a metre, the model's cable %d", l.Link.ID, l.Name, l.Cable.Cables, l.Construction, price, perM)
+		// The book's price of each cable the bill buys, added up (288 + 12: both prices).
+		priceOf := func(construction string, cables media.Cables) (cents int64) {
+			for _, c := range cables {
+				x, _ := p.Price(media.PriceKey{Item: media.PriceCable, Medium: l.Medium, Construction: construction, Count: c.Count})
+				cents += x
+			}
+			return cents
+		}
+		if price := priceOf(l.Construction, l.Cable.Cables); price != perM {
+			t.Fatalf("leg %s %s: %s × %s at %d cents a metre, the model's cable %d", l.Link.ID, l.Name, l.Cable.Cables.Text(), l.Construction, price, perM)
 		}
 		if l.Inside == "" {
 			billOnly += media.MulCents(perM, l.Cable.LengthM-items.Wasted(r.Plan.Design, l.Cable.ChannelM))
@@ -228,16 +236,18 @@ func modelGap(t *testing.T, r *route.Result) (billOnly, modelOnly int64) {
 			// media engine prices them (one enclosure per outside cable and trays for its strands
 			// at each entrance of the transition; every strand spliced there, once an end, at
 			// splices_per_hour).
-			in, _ := p.Price(media.PriceKey{Item: media.PriceCable, Medium: l.Medium, Construction: l.Inside, Count: l.Cable.InsideSize.Count})
-			inPerM := in * int64(l.Cable.InsideCables)
+			inPerM := priceOf(l.Inside, l.Cable.InsideCables)
 			wIn := items.Wasted(r.Plan.Design, l.Cable.InsideRunM)
 			billOnly += media.MulCents(perM, l.Cable.LengthM-l.Cable.InsideLengthM-items.Wasted(r.Plan.Design, l.Cable.ChannelM)+wIn) +
 				media.MulCents(inPerM, l.Cable.InsideLengthM-wIn)
 			encl, _ := p.Price(media.PriceKey{Item: media.PriceTransition})
 			tray, _ := p.Price(media.PriceKey{Item: media.PriceSpliceTray})
-			spliced := l.Cable.Size.Count * l.Cable.Cables
+			spliced, trays := 0, 0
+			for _, c := range l.Cable.Cables { // each cable in its own enclosure, its own trays
+				spliced, trays = spliced+c.Count, trays+p.TraysFor(c.Count)
+			}
 			ends := l.InsideAt.Count()
-			modelOnly += int64(ends) * (int64(l.Cable.Cables)*encl + int64(p.TraysFor(spliced))*tray)
+			modelOnly += int64(ends) * (int64(len(l.Cable.Cables))*encl + int64(trays)*tray)
 			hour, _ := p.Price(media.PriceKey{Item: media.PriceLabourHour})
 			rate, _ := p.Rate(media.PriceKey{Item: media.RateSplice})
 			modelOnly += int64(math.Round(float64(ends*spliced) / rate * float64(hour)))
@@ -309,11 +319,35 @@ func TestOneCostModel(t *testing.T) {
 			t.Fatal(err)
 		}
 		for _, l := range r.Legs {
-			if l.Cable.Cables != 3 {
-				t.Fatalf("leg %s: %s, %d cables; want three 4-pair cables", l.Link.ID, l.Medium, l.Cable.Cables)
+			if len(l.Cable.Cables) != 3 {
+				t.Fatalf("leg %s: %s, %d cables; want three 4-pair cables", l.Link.ID, l.Medium, len(l.Cable.Cables))
 			}
 		}
 		oneCostModel(t, "copper", r)
+	})
+	// Fibre links of 200 strands with 50 % growth: 300 strands, more than the largest size
+	// (288, the catalog's TIA-598 common-practice counts, seen), bought as 288 + 12
+	// (media.Engine.Cables, tester 11's finding 15): the model prices both cables per metre and
+	// counts each one's pulls, crew and duct place, as the bill does.
+	t.Run("fibre, 288 + 12 a leg", func(t *testing.T) {
+		t.Parallel()
+		dir := t.TempDir()
+		if err := os.WriteFile(filepath.Join(dir, "prices.yaml"), costBook(t), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		r, err := testplan.PullSolve(t, 100, 2, func(p *plan.Plan) {
+			p.Dir, p.Prices = dir, "prices.yaml"
+			p.Defaults.Strands, p.Defaults.Growth = 200, 0.5
+		})
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, l := range r.Legs {
+			if got := l.Cable.Cables.Text(); got != "288 + 12" {
+				t.Fatalf("leg %s: %s, cables %s; want 288 + 12", l.Link.ID, l.Medium, got)
+			}
+		}
+		oneCostModel(t, "288 + 12", r)
 	})
 }
 
@@ -337,7 +371,7 @@ func oneCostModel(t *testing.T, name string, r *route.Result) {
 	// per opened span its new work, duct and handholes.
 	crossed := 0
 	for _, l := range r.Legs {
-		crossed += len(l.Steps) * max(l.Cable.Cables, 1)
+		crossed += len(l.Steps) * max(len(l.Cable.Cables), 1)
 	}
 	modelItems := 5*crossed + 4*len(r.Legs) + 5*len(r.Opened)
 	bound := 0.5 * float64(modelItems+nItems)

@@ -96,8 +96,12 @@ func TestPoleRiserCable(t *testing.T) {
 	var want int64
 	for _, id := range []string{"A-C", "A-G"} {
 		_, l := testplan.LegOf(t, with, id)
-		price, _ := pb.Price(media.PriceKey{Item: media.PriceCable, Medium: l.Medium, Construction: l.Construction, Count: l.Cable.Size.Count})
-		want += media.MulCents(price, 6*1.05) + pb.Cents(items.Pull("duct", 6))
+		var perMCents int64 // every cable of the leg (media.Cables)
+		for _, c := range l.Cable.Cables {
+			price, _ := pb.Price(media.PriceKey{Item: media.PriceCable, Medium: l.Medium, Construction: l.Construction, Count: c.Count})
+			perMCents += price
+		}
+		want += media.MulCents(perMCents, 6*1.05) + pb.Cents(items.Pull("duct", 6))
 	}
 	if got := with.ObjectiveCents - without.ObjectiveCents; math.Abs(float64(got-want)) > 2 {
 		t.Errorf("objective moved %s; want %s (2 × 6.3 m of cable and 6 m pulled)", media.FormatCents(got), media.FormatCents(want))

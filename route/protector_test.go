@@ -44,9 +44,9 @@ func TestPrimaryProtectors(t *testing.T) {
 	if m := r.Engine.Catalog().Medium(leg.Medium); m == nil || m.Fibre() || !leg.Outdoor {
 		t.Fatalf("leg A-B: medium %q, outdoor %v; want copper leaving the buildings", leg.Medium, leg.Outdoor)
 	}
-	want := float64(2 * leg.Cable.Cables) // one at each end of each 4-pair cable
+	want := float64(2 * len(leg.Cable.Cables)) // one at each end of each 4-pair cable
 	if want < 4 {
-		t.Fatalf("leg A-B: %d cables, want 2 (4 strands, one 4-pair cable per two)", leg.Cable.Cables)
+		t.Fatalf("leg A-B: %d cables, want 2 (4 strands, one 4-pair cable per two)", len(leg.Cable.Cables))
 	}
 	line, ok := testplan.BOMLine(r.Estimate.BOM, estimate.ProtectorItem)
 	if !ok || line.Quantity != want || !line.NotPriced || line.ExtendedCents != 0 || line.Category != media.CategoryMaterial {
@@ -101,8 +101,8 @@ func TestCopperLegsInTheirOwnTerms(t *testing.T) {
 		return r
 	}
 	_, leg := testplan.LegOf(t, solve(copperCampus()), "A-B")
-	if leg.Medium != "cat6a" || leg.Cable.Cables != 1 || leg.StrandsCable != 4 {
-		t.Errorf("copper leg: medium %q, %d cables, strands %d; want cat6a, one 4-pair cable, 4 pairs", leg.Medium, leg.Cable.Cables, leg.StrandsCable)
+	if leg.Medium != "cat6a" || len(leg.Cable.Cables) != 1 || leg.StrandsCable != 4 {
+		t.Errorf("copper leg: medium %q, %d cables, strands %d; want cat6a, one 4-pair cable, 4 pairs", leg.Medium, len(leg.Cable.Cables), leg.StrandsCable)
 	}
 
 	// Risers of 12 m at B: 12 + 5 m coil + 3 m loop = 20 m inside B, 1 + 8 = 9 m inside A.

@@ -75,16 +75,16 @@ func TestStructuresPassedOneCount(t *testing.T) {
 			}
 			prev = sp.ChannelM
 		}
-		entries += c.Structures * c.Cables
+		entries += c.Structures * len(c.Cables)
 		ends += c.CableEnds()
 		enclosures += c.Enclosures()
-		joins += c.Joins * c.Cables
+		joins += c.Joins * len(c.Cables)
 		if l.Inside != "" {
 			transitions++
 			// A transition leg of one cable: its outside cable's 2 ends and the 2 ends of the
 			// inside cable at each building of the transition (common practice, no published
 			// source).
-			if want := 2 + 2*l.InsideAt.Count() + 2*c.Joins; c.Cables == 1 && c.InsideCables == 1 && c.CableEnds() != want {
+			if want := 2 + 2*l.InsideAt.Count() + 2*c.Joins; len(c.Cables) == 1 && len(c.InsideCables) == 1 && c.CableEnds() != want {
 				t.Errorf("%s %s: %d cable ends, want %d (2 a join)", l.Link.ID, l.Name, c.CableEnds(), want)
 			}
 		}

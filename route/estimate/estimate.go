@@ -430,8 +430,11 @@ func (r *run) pullPlan(i int) legPulls {
 	leg := &r.Legs[i]
 	med := r.Engine.Catalog().Medium(leg.Medium)
 	k := med.Construction(leg.Construction)
-	spec := install.PullSpec{WNPerM: leg.Cable.Size.WeightKgPerM * StandardGravity, Mu: d.PullMu,
-		MaxTensionN: k.PullRatingN(leg.Cable.Size), MaxBendDeg: d.PullBendDeg, MaxLengthM: d.PullMaxM, MaxSWBPNPerM: d.PullMaxSWBPNPerM}
+	// One plan of pull points for all the leg's cables, each pulled on its own: the heaviest
+	// one's weight against the lowest rating of any (of 288 + 12 indoor-outdoor fibres, the
+	// 288's weight and the 12's 1335 N), so that every cable may be pulled at the points it gives.
+	spec := install.PullSpec{WNPerM: leg.Cable.Cables.HeaviestKgPerM() * StandardGravity, Mu: d.PullMu,
+		MaxTensionN: k.LeastPullRatingN(leg.Cable.Cables), MaxBendDeg: d.PullBendDeg, MaxLengthM: d.PullMaxM, MaxSWBPNPerM: d.PullMaxSWBPNPerM}
 	juncs := s.JunctionsOf(leg.Steps)
 	cum := make([]float64, len(leg.Steps)+1)
 	spans := make([]geo.Span, len(leg.Steps))
@@ -439,7 +442,7 @@ func (r *run) pullPlan(i int) legPulls {
 		spans[j], _ = s.Net.Span(st.SpanID)
 		cum[j+1] = cum[j] + spans[j].LengthM
 	}
-	cableBendM := k.BendRadiusMM(leg.Cable.Size, true) / 1000
+	cableBendM := k.BendRadiusMM(leg.Cable.Cables.Largest(), true) / 1000
 	tight := ""
 	radius := func(sp *geo.Span) float64 {
 		f := BendRadiusFibreID
@@ -735,16 +738,18 @@ func (r *run) ductFill() {
 		if !l.Feasible {
 			continue
 		}
-		od := l.Cable.Size.ODMM
+		ods := l.Cable.Cables.ODsMM() // each cable its own diameter: 288 + 12 are 20 and 10.5 mm
 		if design.Innerduct() {
-			od = design.InnerductODMM // every cable in a duct is in an innerduct of its own
+			for j := range ods {
+				ods[j] = design.InnerductODMM // every cable in a duct is in an innerduct of its own
+			}
 		}
 		link := ""
 		if l.Link != nil { // a leg assembled by hand may lack its link
 			link = l.Link.ID
 		}
 		for _, st := range l.Steps {
-			bySpan[st.SpanID] = append(bySpan[st.SpanID], onSpan{link, l.Label(), slices.Repeat([]float64{od}, l.Cable.Cables)})
+			bySpan[st.SpanID] = append(bySpan[st.SpanID], onSpan{link, l.Label(), ods})
 		}
 	}
 	// cables lists a span's cables in the optimizer's packing order (the links in order), then
@@ -1448,18 +1453,23 @@ func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg) []
 	}
 	times := func(n float64, per ...media.Quantity) { qs = append(qs, items.Times(n, per...)...) }
 	t := l.Cable
-	n := float64(t.Cables)
+	n := float64(len(t.Cables))
 	m := eng.Catalog().Medium(l.Medium)
 	fibre := m != nil && m.Fibre()
-	qs = append(qs, items.Cable(l.Medium, l.Construction, t.Size.Count, fibre, t.OutsideLengthM()*n))
+	// One line of cable per size bought (288 + 12: a 288 and a 12 line), each all its cables.
+	for _, lot := range t.Cables.Lots() {
+		qs = append(qs, items.Cable(l.Medium, l.Construction, lot.Size.Count, fibre, t.OutsideLengthM()*float64(lot.Cables)))
+	}
 	if l.Inside != "" {
 		// The entrance transitions, at the ends the engine chose (Leg.InsideAt): inside cable
 		// up those risers, and at each such entrance an enclosure per cable with trays for
-		// every strand, all spliced through.
-		qs = append(qs, items.Cable(l.Medium, l.Inside, t.InsideSize.Count, true, t.InsideLengthM*float64(t.InsideCables)))
-		spliced, at := t.Size.Count*t.Cables, t.InsideEnds
+		// every strand it holds, all spliced through.
+		for _, lot := range t.InsideCables.Lots() {
+			qs = append(qs, items.Cable(l.Medium, l.Inside, lot.Size.Count, true, t.InsideLengthM*float64(lot.Cables)))
+		}
+		spliced, at := t.Cables.Strands(), t.InsideEnds
 		add(media.CategoryMaterial, "entrance transition enclosure", media.UnitEach, float64(t.TransitionEnclosures()), media.PriceKey{Item: media.PriceTransition})
-		add(media.CategoryMaterial, fmt.Sprintf("splice tray, %d splices", p.TraySplices()), media.UnitEach, float64(at*p.TraysFor(spliced)), media.PriceKey{Item: media.PriceSpliceTray})
+		add(media.CategoryMaterial, fmt.Sprintf("splice tray, %d splices", p.TraySplices()), media.UnitEach, float64(at*t.Cables.Trays(p)), media.PriceKey{Item: media.PriceSpliceTray})
 		work("splice fibre, entrance transitions", media.UnitEach, float64(at*spliced), media.PriceKey{Item: media.RateSplice})
 	}
 	ends := float64(2 * t.Terminated)
@@ -1484,8 +1494,8 @@ func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg) []
 	if t.Joins > 0 {
 		joins := float64(t.Joins) * n
 		add(media.CategoryMaterial, "splice closure, mid-span join", media.UnitEach, joins, media.PriceKey{Item: media.PriceSpliceClosure})
-		add(media.CategoryMaterial, fmt.Sprintf("splice tray, %d splices", p.TraySplices()), media.UnitEach, joins*float64(p.TraysFor(t.Size.Count)), media.PriceKey{Item: media.PriceSpliceTray})
-		work("splice fibre, mid-span joins", media.UnitEach, joins*float64(t.Size.Count), media.PriceKey{Item: media.RateSplice})
+		add(media.CategoryMaterial, fmt.Sprintf("splice tray, %d splices", p.TraySplices()), media.UnitEach, float64(t.Joins*t.Cables.Trays(p)), media.PriceKey{Item: media.PriceSpliceTray})
+		work("splice fibre, mid-span joins", media.UnitEach, float64(t.Joins*t.Cables.Strands()), media.PriceKey{Item: media.RateSplice})
 	}
 	// Along the route by pathway type; then risers, coils and entrance loops inside the buildings,
 	// counted laterals and structure loops in duct.
@@ -1687,7 +1697,7 @@ func (r *run) bidBases() media.BidBases {
 		}
 		b.Legs++
 		b.CableEnds += l.Cable.CableEnds()
-		b.Structures += l.Cable.Structures * l.Cable.Cables
+		b.Structures += l.Cable.Structures * len(l.Cable.Cables)
 		for _, st := range l.Steps {
 			if !used[st.SpanID] {
 				used[st.SpanID] = true

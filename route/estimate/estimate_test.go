@@ -39,9 +39,9 @@ func TestPullTensionByHand(t *testing.T) {
 	}
 	i, leg := testplan.LegOf(t, r, "A-B")
 	k := r.Engine.Catalog().Medium(leg.Medium).Construction(leg.Construction)
-	size, _ := k.Fit(leg.StrandsCable)
-	w := size.WeightKgPerM * 9.80665 // N/m, standard gravity
-	const mu = 0.5                   // PlanDefaults: the usual value when unknown
+	size := k.Sizes[slices.IndexFunc(k.Sizes, func(s media.Size) bool { return s.Count >= leg.StrandsCable })] // the smallest that holds them
+	w := size.WeightKgPerM * 9.80665                                                                           // N/m, standard gravity
+	const mu = 0.5                                                                                             // PlanDefaults: the usual value when unknown
 	capstan := math.Exp(mu * math.Pi / 2)
 	// Lengths of the straights, measured between the vertices with the geodesic distance.
 	d := func(x1, y1, x2, y2 float64) float64 {
@@ -198,8 +198,8 @@ func TestReelJoinsInLossBudget(t *testing.T) {
 	}
 	joins, splices := 0.0, 0
 	for _, l := range cut.Legs {
-		joins += float64(l.Cable.Joins * l.Cable.Cables)
-		splices += l.Cable.Joins * l.Cable.Cables * l.Cable.Size.Count
+		joins += float64(l.Cable.Joins * len(l.Cable.Cables))
+		splices += l.Cable.Joins * l.Cable.Cables.Strands()
 	}
 	if got := testplan.BOMQty(cut.Estimate.BOM, "splice closure, mid-span join"); got != joins {
 		t.Errorf("closures: got %v, want %v", got, joins)
@@ -285,14 +285,14 @@ func TestSpliceSlackAtJoins(t *testing.T) {
 		}
 	}
 	// The bill, over every leg of the campus (each the same route in both plans).
-	item := items.Cable(b.Medium, b.Construction, b.Cable.Size.Count, true, 0).Item
+	item := items.Cable(b.Medium, b.Construction, b.Cable.Cables.Largest().Count, true, 0).Item
 	wantM, placedM := 0.0, 0.0
 	for i := range with.Legs {
 		x, y := &none.Legs[i], &with.Legs[i]
-		if y.Feasible && items.Cable(y.Medium, y.Construction, y.Cable.Size.Count, true, 0).Item == item {
-			wantM += (y.Cable.LengthM - x.Cable.LengthM) * float64(y.Cable.Cables)
+		if y.Feasible && items.Cable(y.Medium, y.Construction, y.Cable.Cables.Largest().Count, true, 0).Item == item {
+			wantM += (y.Cable.LengthM - x.Cable.LengthM) * float64(len(y.Cable.Cables))
 		}
-		placedM += y.Cable.SpliceSlackM * float64(y.Cable.Cables)
+		placedM += y.Cable.SpliceSlackM * float64(len(y.Cable.Cables))
 	}
 	if d := testplan.BOMQty(with.Estimate.BOM, item) - testplan.BOMQty(none.Estimate.BOM, item); d != wantM || d <= 0 {
 		t.Errorf("bill %q: %.0f m more, want the cable bought's %.0f", item, d, wantM)
@@ -465,8 +465,9 @@ func TestCopperTakeoff(t *testing.T) {
 	cat := r.Engine.Catalog()
 	k := cat.Medium("cat6a").Construction("outdoor")
 	leg.Medium, leg.Construction, leg.Application = "cat6a", "outdoor", "1000BASE-T"
-	leg.Cable.Fit(cat, media.Choice{Medium: "cat6a", Construction: "outdoor", Strands: (leg.StrandsCable + 1) / 2}, 0)
-	if leg.Cable.Cables != (leg.StrandsCable+1)/2 || leg.Cable.Size != k.Sizes[0] {
+	bought, _ := r.Engine.Cables(cat.Medium("cat6a"), k, (leg.StrandsCable+1)/2)
+	leg.Cable.Fit(media.Choice{Medium: "cat6a", Construction: "outdoor", Strands: (leg.StrandsCable + 1) / 2, Cables: bought}, 0)
+	if len(leg.Cable.Cables) != (leg.StrandsCable+1)/2 || leg.Cable.Cables.Largest() != k.Sizes[0] {
 		t.Fatalf("copper fit: %+v", leg.Cable)
 	}
 	e, err := estimate.Build(context.Background(), estimate.Input{Site: r.Site, Plan: r.Plan, Engine: r.Engine, Legs: r.Legs, Fill: r.Fill, Opened: r.Opened})
@@ -475,7 +476,7 @@ func TestCopperTakeoff(t *testing.T) {
 	}
 	r.Estimate = e
 	b := e.BOM
-	cables := float64(leg.Cable.Cables)
+	cables := float64(len(leg.Cable.Cables))
 	for item, want := range map[string]float64{
 		"termination cat6a, per 4-pair cable end": 2 * cables,
 		"copper patch panel, 24 ports":            2, // one at A and one at B
@@ -493,7 +494,7 @@ func TestCopperTakeoff(t *testing.T) {
 		t.Errorf("copper cable: got %+v, want %v m", l, leg.Cable.LengthM*cables)
 	}
 	for _, c := range r.Estimate.Buildings {
-		if c.Building == "B" && (c.SpliceTrays != 0 || c.CopperCables != leg.Cable.Cables || c.FibreStrands != 0) {
+		if c.Building == "B" && (c.SpliceTrays != 0 || c.CopperCables != len(leg.Cable.Cables) || c.FibreStrands != 0) {
 			t.Errorf("building B: %+v", c)
 		}
 	}
@@ -755,8 +756,8 @@ func TestEntranceTransition(t *testing.T) {
 	if q := testplan.BOMQty(b, "cable os2 ofnr-riser, 24 strands"); q < c.InsideLengthM {
 		t.Errorf("riser cable bought: %v m, want at least B's %.0f m", q, c.InsideLengthM)
 	}
-	if l, ok := testplan.BOMLine(b, "splice fibre, entrance transitions"); !ok || l.Work < float64(2*c.Size.Count) {
-		t.Errorf("transition splicing: %+v (found %v), want at least %d splices", l, ok, 2*c.Size.Count)
+	if l, ok := testplan.BOMLine(b, "splice fibre, entrance transitions"); !ok || l.Work < float64(2*c.Cables.Largest().Count) {
+		t.Errorf("transition splicing: %+v (found %v), want at least %d splices", l, ok, 2*c.Cables.Largest().Count)
 	}
 	files, err := output.Files(context.Background(), tr, output.WriteOptions{SkipWorkbook: true})
 	if err != nil {
@@ -812,8 +813,8 @@ func TestEntranceTransitionOneEnd(t *testing.T) {
 	}
 	// Cable ends: the outside cable's two and the inside cable's two at B (common practice,
 	// no published source: a crew task per cable end); one enclosure per outside cable.
-	if c.CableEnds() != 2*c.Cables*(1+c.Joins)+2*c.InsideCables || c.TransitionEnclosures() != c.Cables {
-		t.Errorf("%d cable ends and %d transition enclosures for %d cables (%d inside, %d joins)", c.CableEnds(), c.TransitionEnclosures(), c.Cables, c.InsideCables, c.Joins)
+	if c.CableEnds() != 2*len(c.Cables)*(1+c.Joins)+2*len(c.InsideCables) || c.TransitionEnclosures() != len(c.Cables) {
+		t.Errorf("%d cable ends and %d transition enclosures for %d cables (%d inside, %d joins)", c.CableEnds(), c.TransitionEnclosures(), len(c.Cables), len(c.InsideCables), c.Joins)
 	}
 	// The design loss worked by hand (the engine's design values, as tester 8's losscheck.py
 	// reads them: 0.5 dB a mated pair, 0.3 dB a splice; ANSI/TIA-568.3-D single-mode maxima
@@ -831,14 +832,14 @@ func TestEntranceTransitionOneEnd(t *testing.T) {
 		t.Errorf("A-C, 14 m inside at both ends: %s + %q at %v, want no transition", lc.Construction, lc.Inside, lc.TransitionAt())
 	}
 	b := tr.Estimate.BOM
-	if q := testplan.BOMQty(b, "entrance transition enclosure"); q != float64(c.Cables) {
-		t.Errorf("entrance transition enclosures: %v, want %d (A-B's, at B)", q, c.Cables)
+	if q := testplan.BOMQty(b, "entrance transition enclosure"); q != float64(len(c.Cables)) {
+		t.Errorf("entrance transition enclosures: %v, want %d (A-B's, at B)", q, len(c.Cables))
 	}
-	if q := testplan.BOMQty(b, fmt.Sprintf("cable os2 ofnr-riser, %d strands", c.InsideSize.Count)); q != c.InsideLengthM*float64(c.InsideCables) {
+	if q := testplan.BOMQty(b, fmt.Sprintf("cable os2 ofnr-riser, %d strands", c.InsideCables.Largest().Count)); q != c.InsideLengthM*float64(len(c.InsideCables)) {
 		t.Errorf("riser cable bought: %v m, want B's %.0f m", q, c.InsideLengthM)
 	}
-	if l, ok := testplan.BOMLine(b, "splice fibre, entrance transitions"); !ok || l.Work != float64(c.Size.Count*c.Cables) {
-		t.Errorf("transition splicing: %+v (found %v), want %d splices (B's entrance)", l, ok, c.Size.Count*c.Cables)
+	if l, ok := testplan.BOMLine(b, "splice fibre, entrance transitions"); !ok || l.Work != float64(c.Cables.Strands()) {
+		t.Errorf("transition splicing: %+v (found %v), want %d splices (B's entrance)", l, ok, c.Cables.Strands())
 	}
 	files, err := output.Files(context.Background(), tr, output.WriteOptions{SkipWorkbook: true})
 	if err != nil {
@@ -884,8 +885,8 @@ func TestBidBases(t *testing.T) {
 	for _, l := range r.Legs {
 		if l.Feasible {
 			legs++
-			ends += 2 * l.Cable.Cables
-			entries += l.Cable.Structures * l.Cable.Cables
+			ends += 2 * len(l.Cable.Cables)
+			entries += l.Cable.Structures * len(l.Cable.Cables)
 		}
 	}
 	if legs != 2 || ends != 4 || entries < 2 {
@@ -1012,7 +1013,7 @@ func TestInsideWorkNotTray(t *testing.T) {
 	want := 0.0
 	for _, l := range r.Legs {
 		if l.Feasible {
-			want += (l.RiserM + l.Cable.EndSlackM + l.Cable.EntranceLoopM) * float64(l.Cable.Cables)
+			want += (l.RiserM + l.Cable.EndSlackM + l.Cable.EntranceLoopM) * float64(len(l.Cable.Cables))
 		}
 	}
 	l, ok := testplan.BOMLine(r.Estimate.BOM, items.InsideItem)
@@ -1107,8 +1108,8 @@ func TestLateralTap(t *testing.T) {
 		if math.Abs(at-leg.RouteM) > 1e-6 {
 			t.Errorf("%s: pulls end at %.2f m, the route is %.2f m", tc.link, at, leg.RouteM)
 		}
-		setups += float64(len(ps) * leg.Cable.Cables)
-		entries += tc.entries * float64(leg.Cable.Cables)
+		setups += float64(len(ps) * len(leg.Cable.Cables))
+		entries += tc.entries * float64(len(leg.Cable.Cables))
 		if got := lat.SpansText(); got != "lateral of "+leg.EntranceTo {
 			t.Errorf("%s: the lateral pull runs along %q", tc.link, got)
 		}

@@ -36,7 +36,7 @@ func TestDuctFillJamBand(t *testing.T) {
 				Fill: []routing.SegmentFill{{Span: "S1", PathwayID: "P1", Cables: 3, Limited: true, Ducts: 1}}}, Estimate: &Estimate{}}
 			for range 3 {
 				r.Legs = append(r.Legs, routing.Leg{Feasible: true, Steps: []geo.Step{{SpanID: "S1"}},
-					Cable: routing.CableTakeoff{Size: media.Size{Count: 24, ODMM: od}, Cables: 1}})
+					Cable: routing.CableTakeoff{Cables: media.Cables{{Count: 24, ODMM: od}}}})
 			}
 			r.ductFill()
 			var got []int

@@ -39,7 +39,7 @@ func fillHolds(t *testing.T, r *route.Result) (unplaced int) {
 	for _, l := range r.Legs {
 		if l.Feasible {
 			for _, st := range l.Steps {
-				routed[st.SpanID] += l.Cable.Cables
+				routed[st.SpanID] += len(l.Cable.Cables)
 			}
 		}
 	}
@@ -96,7 +96,7 @@ func fillHolds(t *testing.T, r *route.Result) (unplaced int) {
 	// Each row names the leg of each of its cables, in the order of their diameters.
 	odOf := map[string]float64{}
 	for _, l := range r.Legs {
-		od := l.Cable.Size.ODMM
+		od := l.Cable.Cables.Largest().ODMM
 		if r.Plan.Design.Innerduct() {
 			od = r.Plan.Design.InnerductODMM
 		}
@@ -374,8 +374,8 @@ func TestCopperCablesInTheFill(t *testing.T) {
 	}
 	for _, id := range []string{"A-B", "A-C"} {
 		_, l := testplan.LegOf(t, r, id)
-		if !l.Feasible || l.Cable.Cables != 3 {
-			t.Fatalf("leg %s: feasible %v, %s, %d cables; want three 4-pair cables (%s; %s; %v)", id, l.Feasible, l.Medium, l.Cable.Cables, l.Reason, l.Choice, l.Rejected)
+		if !l.Feasible || len(l.Cable.Cables) != 3 {
+			t.Fatalf("leg %s: feasible %v, %s, %d cables; want three 4-pair cables (%s; %s; %v)", id, l.Feasible, l.Medium, len(l.Cable.Cables), l.Reason, l.Choice, l.Rejected)
 		}
 	}
 	for _, f := range r.Fill {

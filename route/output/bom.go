@@ -275,7 +275,7 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 	loss := wb.AddSheet("loss budgets",
 		workbook.Column{Name: "link"}, workbook.Column{Name: "leg"}, workbook.Column{Name: "medium"},
 		workbook.Column{Name: "application"}, workbook.Column{Name: "construction"}, workbook.Column{Name: "wavelength", Unit: "nm"},
-		workbook.Column{Name: "channel", Unit: u.Length}, workbook.Column{Name: "connector pairs"},
+		workbook.Column{Name: "attenuation", Unit: "dB/km"}, workbook.Column{Name: "channel", Unit: u.Length}, workbook.Column{Name: "connector pairs"},
 		workbook.Column{Name: "splices"}, workbook.Column{Name: "loss", Unit: "dB"}, workbook.Column{Name: "limit", Unit: "dB"},
 		workbook.Column{Name: "margin", Unit: "dB"}, workbook.Column{Name: "field test limit", Unit: "dB"},
 		workbook.Column{Name: "operating"}, workbook.Column{Name: "field test limit by"},
@@ -453,10 +453,10 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 			continue
 		}
 		hi := hiOf[i]
-		rated := r.Engine.Catalog().Medium(l.Medium).Construction(l.Construction).PullRatingN(t.Size)
+		rated := r.Engine.Catalog().Medium(l.Medium).Construction(l.Construction).LeastPullRatingN(t.Cables)
 		sch := scheduleOf(r, i)
 		takeoff := []workbook.Cell{workbook.Text(l.Medium), workbook.Text(l.Application), workbook.Text(l.ConstructionText()),
-			workbook.Int(int64(l.StrandsCable)), workbook.Int(int64(sch.cables)), workbook.Number(u.MM(t.Size.ODMM), 1),
+			workbook.Int(int64(l.StrandsCable)), workbook.Int(int64(sch.cables)), workbook.Number(u.MM(t.Cables.Largest().ODMM), 1),
 			workbook.Number(u.M(l.RouteM), 1), workbook.Number(u.M(l.RiserM), 1), workbook.Number(u.M(sch.slackM), 1),
 			workbook.Int(int64(sch.structures)), workbook.Number(u.M(t.LengthM), 1), workbook.Int(int64(sch.reels)),
 			workbook.Int(int64(t.Joins)), workbook.Text(ReelsText(opt, t.ReelsM)), workbook.Text(SplicesText(opt, t.Splices)),
@@ -505,7 +505,8 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 		l := &r.Legs[i]
 		for _, x := range l.Losses {
 			row := []workbook.Cell{workbook.Text(l.Link.ID), workbook.Text(l.Name), workbook.Text(l.Medium), workbook.Text(l.Application),
-				workbook.Text(l.ConstructionText()), workbook.Int(int64(x.WavelengthNM)), workbook.Number(u.M(l.Cable.ChannelM), 1),
+				workbook.Text(l.ConstructionText()), workbook.Int(int64(x.WavelengthNM)), workbook.Number(x.AttenDBPerKm, 3),
+				workbook.Number(u.M(l.Cable.ChannelM), 1),
 				workbook.Int(int64(x.Pairs)), workbook.Int(int64(x.Splices)), workbook.Number(x.LossDB, 2)}
 			if x.Operating {
 				row = append(row, workbook.Number(x.LimitDB, 2), workbook.Number(x.MarginDB, 2))

@@ -223,8 +223,8 @@ func planLayers(ctx context.Context, r *route.Result, sts func() (structureList,
 		}
 		w, worst := l.WorstLoss()
 		add(LayerLegs, line, l.Link.ID, l.Name, l.Link.From, l.Link.To, l.Link.Rate, l.Link.FutureRate, l.Feasible,
-			l.Medium, l.Application, l.ConstructionText(), l.StrandsCable, l.Cable.Cables,
-			round1(l.RouteM), round1(l.LateralM), round1(l.RiserM), round1(l.Cable.LengthM*float64(l.Cable.Cables)),
+			l.Medium, l.Application, l.ConstructionText(), l.StrandsCable, len(l.Cable.Cables),
+			round1(l.RouteM), round1(l.LateralM), round1(l.RiserM), round1(l.Cable.LengthM*float64(len(l.Cable.Cables))),
 			optional(round2(w.LimitDB), worst), optional(round2(w.MarginDB), worst), l.Cost.TotalCents(),
 			l.EntranceFrom, l.EntranceTo, ListText(tr.pathways), ListText(tr.crosses), ListText(tr.turns),
 			l.ReasonCode, l.Explain())

@@ -614,7 +614,7 @@ func Summarize(r *route.Result) Summary {
 	sharedPoint := map[string]bool{} // links whose diverse leg shares a single point of failure
 	for _, l := range r.Legs {
 		s.ModelCents += l.Cost.TotalCents()
-		s.MidSpanSplices += l.Cable.Joins * l.Cable.Cables
+		s.MidSpanSplices += l.Cable.Joins * len(l.Cable.Cables)
 		if !l.Feasible {
 			s.Infeasible++
 			s.InfeasibleNames = append(s.InfeasibleNames, l.Label())

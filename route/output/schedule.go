@@ -43,9 +43,9 @@ func scheduleOf(r *route.Result, i int) schedule {
 		return schedule{}
 	}
 	t := l.Cable
-	return schedule{feasible: true, inside: l.Inside != "", insideTo: l.InsideAt.Has(media.EndA), insideFrom: l.InsideAt.Has(media.EndB), cables: t.Cables, reels: t.Reels, structures: t.Structures,
+	return schedule{feasible: true, inside: l.Inside != "", insideTo: l.InsideAt.Has(media.EndA), insideFrom: l.InsideAt.Has(media.EndB), cables: len(t.Cables), reels: t.Reels, structures: t.Structures,
 		cutM: t.OutsideLengthM(), slackM: t.SlackM(), jacket: JacketText(r, l), labels: CableLabels(r, i),
-		insideCables: t.InsideCables, insideToM: t.InsideToM, insideFromM: t.InsideFromM, insideLabels: InsideLabels(r, i)}
+		insideCables: len(t.InsideCables), insideToM: t.InsideToM, insideFromM: t.InsideFromM, insideLabels: InsideLabels(r, i)}
 }
 
 // scheduleHead names links.csv's last columns, the cable schedule an installer cuts and
@@ -129,9 +129,13 @@ func cutOf(opt WriteOptions, r *route.Result) cableCut {
 		}
 		t := l.Cable
 		// The bill's keys (items.Cable, as the estimate's legItems buys the cable).
-		out[items.Cable(l.Medium, l.Construction, t.Size.Count, true, 0).Price] += int64(t.Cables) * tenths(t.OutsideLengthM())
+		for _, lot := range t.Cables.Lots() {
+			out[items.Cable(l.Medium, l.Construction, lot.Size.Count, true, 0).Price] += int64(lot.Cables) * tenths(t.OutsideLengthM())
+		}
 		if l.Inside != "" {
-			out[items.Cable(l.Medium, l.Inside, t.InsideSize.Count, true, 0).Price] += int64(t.InsideCables) * (tenths(t.InsideToM) + tenths(t.InsideFromM))
+			for _, lot := range t.InsideCables.Lots() {
+				out[items.Cable(l.Medium, l.Inside, lot.Size.Count, true, 0).Price] += int64(lot.Cables) * (tenths(t.InsideToM) + tenths(t.InsideFromM))
+			}
 		}
 	}
 	return out
@@ -221,7 +225,7 @@ func CableLabels(r *route.Result, i int) []string {
 		return nil
 	}
 	first := firstCable(r, i)
-	out := make([]string, l.Cable.Cables)
+	out := make([]string, len(l.Cable.Cables))
 	for j := range out {
 		out[j] = cableLabel(l, first+j)
 	}
@@ -235,7 +239,7 @@ func firstCable(r *route.Result, i int) int {
 	first := 1
 	for k := i - 1; k >= 0 && r.Legs[k].Link != nil && r.Legs[k].Link.ID == l.Link.ID; k-- {
 		if r.Legs[k].Feasible {
-			first += r.Legs[k].Cable.Cables
+			first += len(r.Legs[k].Cable.Cables)
 		}
 	}
 	return first
@@ -260,9 +264,9 @@ func InsideLabels(r *route.Result, i int) []string {
 	}
 	first := firstCable(r, i)
 	at := l.TransitionAt()
-	out := make([]string, 0, len(at)*l.Cable.InsideCables)
+	out := make([]string, 0, len(at)*len(l.Cable.InsideCables))
 	for _, b := range at {
-		for j := 0; j < l.Cable.InsideCables; j++ {
+		for j := range l.Cable.InsideCables {
 			out = append(out, cableLabel(l, first+j)+":"+b)
 		}
 	}

@@ -84,7 +84,7 @@ func TestScheduleColumns(t *testing.T) {
 			if got, want := f(row[cut])+f(row[inTo])+f(row[inFrom]), f(sheet[i+1][bought]); math.Abs(got-want) > 0.11 {
 				t.Errorf("%s (%s): pieces %s + %s + %s, cable bought %s", l.Label(), u, row[cut], row[inTo], row[inFrom], sheet[i+1][bought])
 			}
-			if (l.Inside != "") != (row[inCables] != "") || (l.Inside != "" && len(strings.Fields(row[inLabels])) != len(l.TransitionAt())*l.Cable.InsideCables) {
+			if (l.Inside != "") != (row[inCables] != "") || (l.Inside != "" && len(strings.Fields(row[inLabels])) != len(l.TransitionAt())*len(l.Cable.InsideCables)) {
 				t.Errorf("%s: inside %q, inside cables %q, labels %q", l.Label(), l.Inside, row[inCables], row[inLabels])
 			}
 			// TIA-598-D premises cable jacket colours: yellow single-mode, aqua OM3 and OM4,
@@ -97,7 +97,7 @@ func TestScheduleColumns(t *testing.T) {
 				t.Errorf("%s: jacket %q, want %q (%s %s)", l.Label(), row[jacket], want, l.Medium, l.Construction)
 			}
 			labels := strings.Fields(row[label])
-			if n, _ := strconv.Atoi(row[cables]); len(labels) != n || n != l.Cable.Cables {
+			if n, _ := strconv.Atoi(row[cables]); len(labels) != n || n != len(l.Cable.Cables) {
 				t.Errorf("%s: labels %q for %s cables", l.Label(), labels, row[cables])
 			}
 			for _, lb := range labels {
@@ -164,10 +164,18 @@ func piecesAddUpToBill(t *testing.T, r *route.Result, opt WriteOptions) {
 		if !l.Feasible {
 			continue
 		}
-		piece(media.PriceKey{Item: media.PriceCable, Medium: l.Medium, Construction: l.Construction, Count: l.Cable.Size.Count}, l, count(row[cables])*tenths(row[cut]))
+		// Each size on its own bill line (288 + 12: a 288 and a 12 line), the CSV's cables all of them.
+		if count(row[cables]) != int64(len(l.Cable.Cables)) || (l.Inside != "" && count(row[inCables]) != int64(len(l.Cable.InsideCables))) {
+			t.Errorf("%s: cables %s, inside %s; the takeoff's %s and %s", l.Label(), row[cables], row[inCables], l.Cable.Cables.Text(), l.Cable.InsideCables.Text())
+		}
+		for _, lot := range l.Cable.Cables.Lots() {
+			piece(media.PriceKey{Item: media.PriceCable, Medium: l.Medium, Construction: l.Construction, Count: lot.Size.Count}, l, int64(lot.Cables)*tenths(row[cut]))
+		}
 		if l.Inside != "" {
 			transitions++
-			piece(media.PriceKey{Item: media.PriceCable, Medium: l.Medium, Construction: l.Inside, Count: l.Cable.InsideSize.Count}, l, count(row[inCables])*(tenths(row[inTo])+tenths(row[inFrom])))
+			for _, lot := range l.Cable.InsideCables.Lots() {
+				piece(media.PriceKey{Item: media.PriceCable, Medium: l.Medium, Construction: l.Inside, Count: lot.Size.Count}, l, int64(lot.Cables)*(tenths(row[inTo])+tenths(row[inFrom])))
+			}
 		}
 	}
 	if transitions == 0 {

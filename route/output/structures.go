@@ -162,7 +162,7 @@ func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 			addTo(atJunction, sp.To, label)
 			addTo(onSpan, st.SpanID, label)
 		}
-		cables := float64(l.Cable.Cables)
+		cables := float64(len(l.Cable.Cables))
 		for _, p := range l.Cable.Passed {
 			k := place{p.ID, p.Span, p.AtM}
 			passed[k] = append(passed[k], label) // each structure once in a leg's list
@@ -245,7 +245,7 @@ func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 			legs = append(legs, l.Label())
 			for _, p := range l.Cable.Splices {
 				if p.NoStructure && p.Text(estimate.MetresText) == at {
-					coiledM += p.SlackM * float64(l.Cable.Cables)
+					coiledM += p.SlackM * float64(len(l.Cable.Cables))
 				}
 			}
 		}

@@ -134,7 +134,7 @@ func TestDuctLegs(t *testing.T) {
 				if want[st.SpanID] == nil {
 					want[st.SpanID] = map[string]int{}
 				}
-				want[st.SpanID][l.Label()] += l.Cable.Cables
+				want[st.SpanID][l.Label()] += len(l.Cable.Cables)
 			}
 		}
 	}
@@ -347,7 +347,7 @@ func TestStructuresCoiled(t *testing.T) {
 		if !l.Feasible {
 			continue
 		}
-		cables := float64(l.Cable.Cables)
+		cables := float64(len(l.Cable.Cables))
 		for _, p := range l.Cable.Passed {
 			want[key{p.ID, p.Span, p.AtM}] += d.SlackLoopStructureM * cables
 			total += d.SlackLoopStructureM * cables

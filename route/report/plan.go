@@ -224,14 +224,17 @@ type planView struct {
 	Legs       []legRow
 	Infeasible int
 	Wavelength []int
-	ReasonSpan int // columns of the links table the reason row spans
-	DesignDB   string
-	Fill       []fillRow
-	FillOver   int
-	FillOpen   int
-	Ducts      []ductRow
-	DuctsOver  int
-	NoDuct     string // how many cables fit no duct of their span (estimate.DuctFill.Unplaced), "" for none
+	// Attenuation is the cabled attenuation the loss budgets count, one entry per fibre
+	// construction the legs use (attenuationUsed).
+	Attenuation []string
+	ReasonSpan  int // columns of the links table the reason row spans
+	DesignDB    string
+	Fill        []fillRow
+	FillOver    int
+	FillOpen    int
+	Ducts       []ductRow
+	DuctsOver   int
+	NoDuct      string // how many cables fit no duct of their span (estimate.DuctFill.Unplaced), "" for none
 	// Crowded counts the ducts given more separate cables than sound pulls allow
 	// (install.Crowded), of every duct, listed or not; Separate is that number of cables.
 	Crowded, Separate int
@@ -507,6 +510,7 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 	v.Costs, v.CostsH = costBars(r)
 	v.Media = mediaRows(r, opt, med, order)
 	v.Wavelength = wavelengths(r)
+	v.Attenuation = attenuationUsed(r)
 	v.ReasonSpan = 11 + len(v.Wavelength)
 	v.Legs, v.Infeasible, v.LegsListed = legRows(r, opt, med, names, v.Wavelength)
 	if err := ctx.Err(); err != nil {
@@ -696,6 +700,31 @@ func mediaRows(r *route.Result, opt Options, med map[string]mediumInfo, order []
 	out := make([]mediumRow, 0, len(order))
 	for _, id := range order {
 		out = append(out, mediumRow{Info: med[id], Links: len(links[id]), Legs: legs[id], Route: opt.length(metres[id]), Cost: money(cost[id])})
+	}
+	return out
+}
+
+// attenuationUsed is the catalog's maximum cabled attenuation of each fibre construction a
+// feasible leg uses, its own or the inside one of an entrance transition, in catalog order:
+// "os2 osp-loose-tube 0.50 dB/km at 1310 nm, 0.50 dB/km at 1550 nm", the figures a loss
+// budget multiplies by the length (tester 11's finding 7: printed nowhere).
+func attenuationUsed(r *route.Result) []string {
+	used := map[[2]string]bool{}
+	for _, l := range r.Legs {
+		if l.Feasible {
+			used[[2]string{l.Medium, l.Construction}] = true
+			if l.Inside != "" {
+				used[[2]string{l.Medium, l.Inside}] = true
+			}
+		}
+	}
+	var out []string
+	for _, m := range r.Engine.Catalog().Media {
+		for _, k := range m.Constructions {
+			if m.Fibre() && used[[2]string{m.ID, k.ID}] {
+				out = append(out, m.ID+" "+k.ID+" "+k.AttenuationText())
+			}
+		}
 	}
 	return out
 }

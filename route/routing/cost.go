@@ -21,16 +21,22 @@ import (
 var StandardStrandCounts = []int{12, 24, 48, 72, 96, 144, 288}
 
 // CableStrands rounds required × (1 + growth) up to a standard cable count; beyond the
-// largest it rounds up to a multiple of the largest.
+// largest, to as many of the largest as leave less than one more, and the standard count
+// that holds the rest: 300 strands are 288 + 12, not 2 × 288 (the set of cables the media
+// engine then buys them in, media.Engine.Cables, on the book's prices).
 func CableStrands(required int, growth float64) int {
 	n := int(math.Ceil(float64(required)*(1+growth) - 1e-9))
+	big := StandardStrandCounts[len(StandardStrandCounts)-1]
+	full := 0
+	if n > big {
+		full = (n - 1) / big
+	}
 	for _, c := range StandardStrandCounts {
-		if n <= c {
-			return c
+		if n-full*big <= c {
+			return full*big + c
 		}
 	}
-	big := StandardStrandCounts[len(StandardStrandCounts)-1]
-	return (n + big - 1) / big * big
+	panic("routing: no standard strand count holds the rest") // unreachable: the rest is at most big
 }
 
 // CopperCables is the number of 4-pair cables a copper link of required strands (two per port
@@ -820,7 +826,7 @@ func (m *Model) addOption(s *site.Site, dm *optimize.Demand, info *demandInfo, m
 	// The cables a leg pulls side by side and their size: known before routing only up to
 	// the construction the rules pick on the route (cableFit: the largest of those it may
 	// run outdoors), as the bill counts them (CableTakeoff.Fit).
-	od, cables := cableFit(mm, info.strands, facts.CopperCables)
+	od, cables := cableFit(m.eng, mm, info.strands, facts.CopperCables)
 	// What the leg takes whatever its path: the cable of its risers, laterals, service coils,
 	// entrance loops and the halves of the structure loops at its ends that its spans leave
 	// out (problem), with waste (perM is all its cables'), and for each cable their pulls
@@ -1016,26 +1022,29 @@ func (m *Model) allowedFor(medium string, info demandInfo, c spanClass) bool {
 // cableFit is the outside diameter in millimetres of the cable the duct capacity counts for
 // the medium and strands, and how many such cables a leg pulls side by side (a copper link's
 // 4-pair cables, one per port pair, ANSI/TIA-568.2; a fibre count above the largest size's):
-// the largest of its outdoor-rated constructions' sizes and counts (media.Construction.Fit),
-// since the rules pick the leg's construction only once it is routed (on its inside runs), and
-// a duct sized for a thinner or fewer cables would leave a cable in no duct; of its first
-// construction when none is outdoor-rated. The count is the bill's (CableTakeoff.Fit) when the
+// the largest of its outdoor-rated constructions' cables (media.Engine.Cables, the bill's, on
+// the same prices) and the most of them, since the rules pick the leg's construction only
+// once it is routed (on its inside runs), and a duct sized for a thinner or fewer cables
+// would leave a cable in no duct; of its first construction when none is outdoor-rated. Every
+// cable counts at the largest one's diameter (the optimizer's option has one diameter,
+// optimize.Option.CableODMM): of 288 + 12 strands both at the 288's, more than the bill's
+// duct fill (estimate) gives the 12. The count is the bill's (CableTakeoff.Fit) when the
 // rules pick the construction with the most; with another, the model counts more cables than
 // the bill (README, "One cost model").
-func cableFit(m *media.Medium, strands, copperCables int) (odMM float64, cables int) {
+func cableFit(eng *media.Engine, m *media.Medium, strands, copperCables int) (odMM float64, cables int) {
 	if m.Kind == media.KindCopper {
 		strands = copperCables
 	}
 	found := false
 	for _, k := range m.Constructions {
 		if k.OutdoorRated {
-			size, n := k.Fit(strands)
-			odMM, cables, found = max(odMM, size.ODMM), max(cables, n), true
+			c, _ := eng.Cables(m, k, strands)
+			odMM, cables, found = max(odMM, c.Largest().ODMM), max(cables, len(c)), true
 		}
 	}
 	if !found && len(m.Constructions) > 0 {
-		size, n := m.Constructions[0].Fit(strands)
-		odMM, cables = size.ODMM, n
+		c, _ := eng.Cables(m, m.Constructions[0], strands)
+		odMM, cables = c.Largest().ODMM, len(c)
 	}
 	return odMM, max(cables, 1)
 }

@@ -338,11 +338,11 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 		return
 	}
 	leg.Feasible = true
-	leg.Cable.Fit(cm.eng.Catalog(), ch, cm.design.WastePct)
+	leg.Cable.Fit(ch, cm.design.WastePct)
 	if m := cm.eng.Catalog().Medium(ch.Medium); m != nil && !m.Fibre() {
 		// Copper counts pairs, four to each 4-pair cable, not the fibre cable size the
 		// plan's strands would round up to (ANSI/TIA-568.2: a 4-pair cable serves one port).
-		leg.StrandsCable = PairsPerCable * leg.Cable.Cables
+		leg.StrandsCable = PairsPerCable * len(leg.Cable.Cables)
 	}
 	if ch.Inside != "" {
 		// With an entrance transition the reels are the outside cable's (cutOutside): fewer

@@ -13,7 +13,8 @@ import (
 )
 
 // CableTakeoff is what one leg needs of its cable. Lengths are metres of one cable; a leg
-// with more strands than the largest size has Cables of them side by side.
+// with more strands than the largest size has several cables side by side (Cables), of
+// the same length.
 type CableTakeoff struct {
 	EndSlackM     float64 // service coils at both ends: 2 × design.slack_m
 	EntranceLoopM float64 // slack loops at both building entrances
@@ -47,8 +48,9 @@ type CableTakeoff struct {
 	ReelsM  []float64
 
 	// Filled once the medium is chosen.
-	Size   media.Size // the cable size of the chosen construction
-	Cables int        // cables of Size
+	// Cables is the cables of the chosen construction, largest first (media.Choice.Cables,
+	// the engine's one decision of them, media.Engine.Cables).
+	Cables media.Cables
 	// Terminated is the strands terminated at each end; for copper, the 4-pair cables, one
 	// per two strands (the catalog lists copper per 4-pair cable only: multipair backbone
 	// cable of 25 to 600 pairs carries no IEEE 802.3 application it lists, so it is neither
@@ -57,7 +59,7 @@ type CableTakeoff struct {
 
 	// With an entrance transition (Leg.Inside): the part of LengthM bought as the inside
 	// construction, which runs inside the buildings of the transition's ends (InsideRunM,
-	// with waste), in InsideCables cables of InsideSize; the rest of LengthM is the
+	// with waste), in InsideCables (media.Choice.InsideCables); the rest of LengthM is the
 	// outside-plant cable. Each inside cable is a piece at each end of the transition
 	// (InsideEnds of them, Leg.InsideAt), cut to InsideToM at the served building (Link.To)
 	// and InsideFromM at the cross-connect (Link.From), 0 at an end without; InsideLengthM is
@@ -68,8 +70,7 @@ type CableTakeoff struct {
 	// InsideRunM is the inside cable's run before waste: the cable inside the end buildings
 	// the media engine spliced on (media.Choice.InsideM); 0 without a transition.
 	InsideRunM   float64
-	InsideSize   media.Size
-	InsideCables int
+	InsideCables media.Cables
 
 	// What placing the joins again over the outside cable needs (cutOutside): the structures
 	// and spans along the channel, the served building, and the channel metres the inside
@@ -89,7 +90,7 @@ func (t CableTakeoff) OutsideLengthM() float64 { return t.LengthM - t.InsideLeng
 // transition (the transition enclosure splices the outside cable's end to one of them). Set
 // once the medium is chosen (Fit).
 func (t CableTakeoff) CableEnds() int {
-	return 2*t.Cables*(1+t.Joins) + 2*t.InsideCables*t.InsideEnds
+	return 2*len(t.Cables)*(1+t.Joins) + 2*len(t.InsideCables)*t.InsideEnds
 }
 
 // Enclosures is the enclosures the leg's cables put in the field, each installed once: a
@@ -97,12 +98,12 @@ func (t CableTakeoff) CableEnds() int {
 // and a splice closure per outside cable at each mid-span join. The buildings' fibre
 // enclosures and panels are counted by building (estimate.Connectivity).
 func (t CableTakeoff) Enclosures() int {
-	return t.Cables*t.Joins + t.TransitionEnclosures()
+	return len(t.Cables)*t.Joins + t.TransitionEnclosures()
 }
 
 // TransitionEnclosures is the entrance transition enclosures of the leg: one per outside
 // cable at each entrance of the transition; 0 without one.
-func (t CableTakeoff) TransitionEnclosures() int { return t.Cables * t.InsideEnds }
+func (t CableTakeoff) TransitionEnclosures() int { return len(t.Cables) * t.InsideEnds }
 
 // SlackM is every slack loop of the leg and the splicing slack at its joins, in metres.
 func (t CableTakeoff) SlackM() float64 {
@@ -537,12 +538,11 @@ func joinsUpToM(d plan.Design, joins int) float64 {
 // entrance loop, in-building trays; A is the served building, Link.To, B the cross-connect's,
 // Link.From, as fillLeg gives the link's ends): at each such end a piece of that end's share,
 // with the design's waste, cut to a whole metre, as a crew cuts each piece from its reel.
-func (t *CableTakeoff) Fit(cat *media.Catalog, ch media.Choice, wastePct float64) {
-	m := cat.Medium(ch.Medium)
-	t.Size, t.Cables = m.Construction(ch.Construction).Fit(ch.Strands)
+func (t *CableTakeoff) Fit(ch media.Choice, wastePct float64) {
+	t.Cables = ch.Cables
 	t.Terminated = ch.Strands
 	if ch.Inside != "" {
-		t.InsideSize, t.InsideCables = m.Construction(ch.Inside).Fit(ch.Strands)
+		t.InsideCables = ch.InsideCables
 		t.InsideRunM, t.InsideEnds = ch.InsideM, ch.InsideAt.Count()
 		to, from := ch.InsideAM, ch.InsideBM
 		t.insideToChM, t.insideFromChM = to, from
