@@ -833,7 +833,7 @@ func (r *run) ductFill() {
 		if f.Limited {
 			sp, _ := r.Site.Net.Span(f.Span)
 			ods, legs := cables(f.Span, f.Links)
-			spans = append(spans, &limited{f: f, sp: sp, bank: install.DuctBank{Ducts: f.Ducts + f.AddedDucts, IDMM: sp.DuctMM}, ods: ods, legs: legs})
+			spans = append(spans, &limited{f: f, sp: sp, bank: install.DuctBank{Ducts: f.Ducts + f.AddedDucts, IDMM: sp.DuctMM, Innerduct: design.Innerduct()}, ods: ods, legs: legs})
 		}
 	}
 	// A cable carried on from one span into the next of its leg in the same duct (geo's
@@ -936,7 +936,7 @@ func (r *run) ductFill() {
 				}
 			}
 		}
-		x.a = x.bank.Spread(x.ods, design.Innerduct(), prefer)
+		x.a = x.bank.Spread(x.ods, prefer)
 		packed[x.sp.ID] = x
 		ductsOf[x.sp.ID] = map[string][]int{}
 		for i, leg := range x.legs {

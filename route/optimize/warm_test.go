@@ -169,8 +169,8 @@ func TestPlaceOnly(t *testing.T) {
 
 // overfullEdges lists the capacity-limited edges of sol whose cables, packed first-fit in the
 // fill's order, do not fit the ducts the edge has and the plan laid there: NFPA 70 Chapter 9
-// Table 1 (53 % of a duct for one cable, 31 % for two, 40 % for three or more) and its jam
-// band, the rule NFPAFits packs by (TestNFPAFits holds it to the table).
+// Table 1 (53 % of a duct for one cable, 31 % for two, 40 % for three or more), its jam band
+// and the count of pulls, the rule NFPAFits packs by (TestNFPAFits holds it to the table).
 func overfullEdges(p *Problem, sol *Solution) []int {
 	var over []int
 	for _, f := range sol.Fill {
@@ -189,7 +189,7 @@ func overfullEdges(p *Problem, sol *Solution) []int {
 		if ed.MayAddDucts() {
 			ducts += f.AddedDucts
 		}
-		if !NFPAFits(ed.DuctIDMM, ods, ducts) {
+		if !NFPAFits(ed.DuctIDMM, ods, ducts, ed.Innerduct) {
 			over = append(over, f.Edge)
 		}
 	}
