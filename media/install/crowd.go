@@ -11,7 +11,7 @@ import (
 // and a duct of many loose cables can be neither sorted nor re-pulled. Past it the cables get
 // innerduct (one cable to a cell or subduct) or ducts of their own. Common practice, no
 // published source; NFPA 70 Chapter 9 Table 1 limits the fill only, not the number of pulls.
-const SeparateCablesPerDuct = 3
+const SeparateCablesPerDuct = 3 // common practice, no published source
 
 // PullLimit is the most cables one duct takes, each pulled on its own: SeparateCablesPerDuct
 // for loose cables; for innerducts (innerduct true: what goes into the duct are innerducts,
