@@ -20,10 +20,10 @@ func FillLimit(n int) float64 { return install.AllowedFillPct(max(n, 1)) / 100 }
 // of pulls: install.PullLimit, three loose cables a duct, no count for innerducts), the rule
 // the bill's duct fill check packs by. A max segment tree over the ducts' free area finds the
 // first duct with room for a cable in O(log ducts), which matters when thousands of cables
-// share a duct bank; a duct at its count of pulls has no room in it. A duct that may jam a third cable (install.Load.MayJam: two cables of
-// one size) is kept out of the tree in a group of the ducts holding the same two cables: they
-// are alike, so one Takes answers for the group and its lowest duct is the one first fit
-// would try. Placing a cable is then O(log ducts + groups), however many ducts hold a pair
+// share a duct bank; a duct at its count of pulls has no room in it. A duct that may jam a
+// third cable (install.Load.MayJam: two cables of one size) is kept out of the tree in a group
+// of the ducts holding the same two cables: they are alike, so one Takes answers for the group
+// and its lowest duct is the one first fit would try. Placing a cable is then O(log ducts + groups), however many ducts hold a pair
 // that refuses it (innerducts of one size, two to a duct, on a trunk).
 type ductPack struct {
 	ductIDMM  float64
