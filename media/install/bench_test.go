@@ -79,7 +79,7 @@ func BenchmarkDuctBankSpread(b *testing.B) {
 		})
 		b.Run("spread_"+c.name, func(b *testing.B) {
 			for b.Loop() {
-				c.bank.Spread(c.ods, false, nil)
+				c.bank.Spread(c.ods, nil)
 			}
 		})
 	}

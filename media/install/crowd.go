@@ -1,6 +1,9 @@
 package install
 
-import "fmt"
+import (
+	"fmt"
+	"math"
+)
 
 // SeparateCablesPerDuct is the most cables, each pulled on its own, that one duct is given
 // before a practitioner would not pull another into it: every later pull drags its rope and
@@ -8,11 +11,26 @@ import "fmt"
 // and a duct of many loose cables can be neither sorted nor re-pulled. Past it the cables get
 // innerduct (one cable to a cell or subduct) or ducts of their own. Common practice, no
 // published source; NFPA 70 Chapter 9 Table 1 limits the fill only, not the number of pulls.
-const SeparateCablesPerDuct = 3
+const SeparateCablesPerDuct = 3 // common practice, no published source
+
+// PullLimit is the most cables one duct takes, each pulled on its own: SeparateCablesPerDuct
+// for loose cables; for innerducts (innerduct true: what goes into the duct are innerducts,
+// each pulled in empty and holding one cable in a cell of its own) no count, only fill and
+// the jam band (math.MaxInt). It is the one count of pulls: Load.Takes refuses a cable to a
+// duct that holds it, so every packer (DuctBank, the optimizer's duct capacity) keeps to it,
+// and Crowded flags a duct beyond it.
+func PullLimit(innerduct bool) int {
+	if innerduct {
+		return math.MaxInt
+	}
+	return SeparateCablesPerDuct
+}
 
 // Crowded reports whether a duct holding cables (not each in an innerduct of its own, which
-// is pulled empty and takes one cable) holds more than SeparateCablesPerDuct.
-func Crowded(cables int, innerduct bool) bool { return !innerduct && cables > SeparateCablesPerDuct }
+// is pulled empty and takes one cable) holds more than PullLimit. No packing of this package
+// gives a duct that many (Load.Takes); a duct holds them only when its cables were put there
+// by hand, a check of what was given rather than what was packed.
+func Crowded(cables int, innerduct bool) bool { return cables > PullLimit(innerduct) }
 
 // CrowdedNote says, as a practitioner would, why a duct of that many separate cables is not
 // a sound set of pulls; "" when it is not Crowded.

@@ -49,6 +49,6 @@ func ExampleDuctBank_Assign() {
 	// duct 0: [61.2] mm, 30.9 % of 53 %, ok true
 	// duct 1: [25.4 25.4 18] mm, 13.3 % of 40 %, ok true
 	// duct of each cable: [1 0 1 1] unplaced: 0
-	// another 25.4 mm cable fits: true
-	// 25.4 mm cables in the empty bank: 14
+	// another 25.4 mm cable fits: false
+	// 25.4 mm cables in the empty bank: 6
 }

@@ -122,13 +122,18 @@ type Load struct {
 }
 
 // Takes reports whether a cable of outside diameter odMM (mm) may be pulled into a duct of
-// internal diameter ductIDMM (mm) holding l: with it the duct stays within the NFPA 70 Chapter 9
-// Table 1 fill for its new cable count, and, as the third cable, it makes no jam-prone
-// trio (Jam). It is the one rule that decides whether a cable goes into a duct: the bill's
-// fill check (DuctBank) and the optimizer's duct capacity both pack with it. It is false for
-// invalid input.
-func (l Load) Takes(ductIDMM, odMM float64) bool {
+// internal diameter ductIDMM (mm) holding l: the duct holds fewer cables than PullLimit (for
+// loose cables, innerduct false, SeparateCablesPerDuct: a sound set of pulls, common practice,
+// no published source; for innerducts no count), with it the duct stays within the NFPA 70
+// Chapter 9 Table 1 fill for its new cable count, and, as the third cable, it makes no
+// jam-prone trio (Jam). It is the one rule that decides whether a cable goes into a duct: the
+// bill's fill check and spread (DuctBank) and the optimizer's duct capacity all pack with it.
+// It is false for invalid input.
+func (l Load) Takes(ductIDMM, odMM float64, innerduct bool) bool {
 	if !finite(ductIDMM) || ductIDMM <= 0 || !finite(odMM) || odMM <= 0 {
+		return false
+	}
+	if l.Cables >= PullLimit(innerduct) {
 		return false
 	}
 	if l.UsedMM2+CableAreaMM2(odMM) > AllowedFillPct(l.Cables+1)/100*DuctAreaMM2(ductIDMM) {
@@ -167,8 +172,9 @@ func (l *Load) Add(odMM float64) {
 
 // FitsDuct reports whether one more cable of outside diameter cableODMM (mm) fits a duct of
 // internal diameter ductIDMM (mm) that already holds cables of the given ODs, pulled in that
-// order (Load.Takes). It is false for invalid input.
-func FitsDuct(ductIDMM, cableODMM float64, existingODsMM []float64) bool {
+// order (Load.Takes; innerduct: they are innerducts, see PullLimit). It is false for invalid
+// input.
+func FitsDuct(ductIDMM, cableODMM float64, existingODsMM []float64, innerduct bool) bool {
 	var l Load
 	for _, od := range existingODsMM {
 		if !finite(od) || od <= 0 {
@@ -176,7 +182,7 @@ func FitsDuct(ductIDMM, cableODMM float64, existingODsMM []float64) bool {
 		}
 		l.Add(od)
 	}
-	return l.Takes(ductIDMM, cableODMM)
+	return l.Takes(ductIDMM, cableODMM, innerduct)
 }
 
 // MaxBankDucts is the most ducts a DuctBank may have; more is taken as an input error.
@@ -190,6 +196,10 @@ const MaxCablesPerDuct = 1 << 20
 type DuctBank struct {
 	Ducts int     // number of spare ducts, in [0, MaxBankDucts]
 	IDMM  float64 // internal diameter of each duct, mm
+	// Innerduct says the cables placed are innerducts, each pulled in empty and holding one
+	// cable: a duct then takes as many as fill and the jam band allow (PullLimit); false,
+	// loose cables, at most SeparateCablesPerDuct to a duct.
+	Innerduct bool
 }
 
 // Assignment is how Assign, Pull or Spread placed cables into the ducts of a DuctBank.
@@ -225,9 +235,10 @@ func (b DuctBank) Assign(cableODsMM []float64) Assignment {
 // bank (route/optimize), so with the optimizer's order and duct count it places what the
 // optimizer placed.
 //
-// Every duct is therefore within fill and free of jam risk after every placement, not only at
-// the end; a third cable may be refused where a fourth would have restored compliance (two
-// cables are held to 31 %, three to 40 %). Invalid input gives OK false and a non-nil Err; it
+// Every duct is therefore within fill, free of jam risk and within its count of pulls
+// (PullLimit: for loose cables SeparateCablesPerDuct) after every placement, not only at the
+// end; a third cable may be refused where a fourth would have restored compliance (two cables
+// are held to 31 %, three to 40 %). Invalid input gives OK false and a non-nil Err; it
 // never panics. Time O(n·Ducts) for n cables.
 func (b DuctBank) Pull(cableODsMM []float64) Assignment {
 	order := make([]int, len(cableODsMM))
@@ -261,7 +272,7 @@ func (b DuctBank) pack(cableODsMM []float64, order []int) Assignment {
 	for _, c := range order {
 		od := cableODsMM[c]
 		for d := range loads {
-			if loads[d].Takes(b.IDMM, od) {
+			if loads[d].Takes(b.IDMM, od, b.Innerduct) {
 				held[d] = append(held[d], od)
 				a.Cables[d] = append(a.Cables[d], c)
 				loads[d].Add(od)
@@ -289,14 +300,15 @@ func (b DuctBank) Fits(assignedODsMM []float64, odMM float64) bool {
 }
 
 // MaxCables is the number of cables of outside diameter odMM (mm) that Assign places in an
-// empty bank: the count one duct accepts cable by cable, times Ducts. The count per duct is
-// capped at MaxCablesPerDuct. It is 0 for invalid input. Time O(1) plus a few fill sums.
+// empty bank: the count one duct accepts cable by cable (at most PullLimit), times Ducts.
+// The count per duct is capped at MaxCablesPerDuct. It is 0 for invalid input. Time O(1)
+// plus a few fill sums.
 func (b DuctBank) MaxCables(odMM float64) int {
 	if b.Ducts <= 0 || b.Ducts > MaxBankDucts || !finite(b.IDMM) || b.IDMM <= 0 || !finite(odMM) || odMM <= 0 {
 		return 0
 	}
 	per := 0
-	for per < 3 && FitsDuct(b.IDMM, odMM, slices.Repeat([]float64{odMM}, per)) {
+	for per < 3 && FitsDuct(b.IDMM, odMM, slices.Repeat([]float64{odMM}, per), b.Innerduct) {
 		per++
 	}
 	if per == 3 {
@@ -309,6 +321,7 @@ func (b DuctBank) MaxCables(odMM float64) int {
 		for per < MaxCablesPerDuct && b.fillOK(odMM, per+1) {
 			per++
 		}
+		per = min(per, PullLimit(b.Innerduct))
 	}
 	return per * b.Ducts
 }

@@ -180,12 +180,15 @@ func TestFitsDuct(t *testing.T) {
 		{"second cable over 31 %", odForPct(id, 1, 16), []float64{odForPct(id, 1, 16)}, false},
 		{"second cable under 31 %", odForPct(id, 1, 15), []float64{odForPct(id, 1, 15)}, true},
 		{"third cable jams", jamOD, []float64{jamOD, jamOD}, false},
+		// Three loose cables are a sound set of pulls, a fourth is not (common practice, no
+		// published source), however much room the fill leaves: 4·13² = 6.8 % of 40 %.
+		{"fourth loose cable", 13, []float64{13, 13, 13}, false},
 		{"cable wider than duct", 120, nil, false},
 		{"bad OD", math.NaN(), nil, false},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
-			if got := FitsDuct(id, tc.od, tc.existing); got != tc.want {
+			if got := FitsDuct(id, tc.od, tc.existing, false); got != tc.want {
 				t.Errorf("%s: got %v, want %v", tc.name, got, tc.want)
 			}
 		})
@@ -209,6 +212,9 @@ func TestDuctBankAssign(t *testing.T) {
 		{"two big fill both ducts", []float64{big, big, small}, []int{0, 1, -1}, 1},
 		{"smalls share the first duct", []float64{small, small, small}, []int{0, 0, 0}, 0},
 		{"fourth small to the second duct", []float64{small, small, small, small}, []int{0, 0, 0, 1}, 0},
+		// Tiny cables the fill would let dozens share one duct: three to a duct, one pull
+		// each (SeparateCablesPerDuct, common practice, no published source), the seventh in none.
+		{"three loose cables to a duct", slices.Repeat([]float64{6}, 7), []int{0, 0, 0, 1, 1, 1, -1}, 1},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
@@ -264,13 +270,17 @@ func TestDuctBankCapacity(t *testing.T) {
 	}{
 		// computed from NFPA 70 Chapter 9 Table 1: (D/d)² = 4: 1 → 25 %, 2 → 50 % > 31 %
 		{"half-diameter cable", DuctBank{Ducts: 4, IDMM: 100}, 50, 4},
-		// (D/d)² = 16: 2 → 12.5 %, 3 → 18.75 % (1.05·D/d = 4.2, no jam), 6 → 37.5 %, 7 → 43.75 %
-		{"quarter-diameter cable", DuctBank{Ducts: 2, IDMM: 100}, 25, 12},
+		// (D/d)² = 16: 2 → 12.5 %, 3 → 18.75 % (1.05·D/d = 4.2, no jam), 6 → 37.5 %, 7 → 43.75 %;
+		// loose cables stop at three a duct (SeparateCablesPerDuct, common practice, no published
+		// source), innerducts, pulled in empty, at the fill
+		{"quarter-diameter cable", DuctBank{Ducts: 2, IDMM: 100}, 25, 6},
+		{"quarter-diameter innerduct", DuctBank{Ducts: 2, IDMM: 100, Innerduct: true}, 25, 12},
 		// 1.05·D/d = 2.9: two fit (26 %), the third would fill 39.3 % but jam
 		{"jam-prone cable", DuctBank{Ducts: 3, IDMM: 100}, JamBendFactor * 100 / 2.9, 6},
 		{"no spare duct", DuctBank{Ducts: 0, IDMM: 100}, 25, 0},
-		// computed: 0.40 × (100/0.11)² = 330 578.5, so 330 578 cables per duct
-		{"hair-thin cable", DuctBank{Ducts: 2, IDMM: 100}, 0.11, 661156},
+		// computed: 0.40 × (100/0.11)² = 330 578.5, so 330 578 innerducts per duct; three cables
+		{"hair-thin innerduct", DuctBank{Ducts: 2, IDMM: 100, Innerduct: true}, 0.11, 661156},
+		{"hair-thin cable", DuctBank{Ducts: 2, IDMM: 100}, 0.11, 6},
 		{"too many ducts", DuctBank{Ducts: 1001, IDMM: 100}, 25, 0},
 		{"bad OD", DuctBank{Ducts: 2, IDMM: 100}, -1, 0},
 	}
@@ -322,8 +332,10 @@ func TestFillBadInput(t *testing.T) {
 // TestLoadTakes checks the one packing rule cable by cable: NFPA 70 Chapter 9 Table 1 (seen) holds
 // one cable to 53 %, two to 31 %, three or more to 40 % of the duct's area, and a third cable of
 // the same size (spread within 5 %, common practice, no published source) is refused when 1.05·D/d
-// lies in 2.8–3.2 (NFPA 70 Chapter 9 Table 1 Informational Note No. 2, seen). MayJam says which
-// ducts Takes may refuse for the jam alone.
+// lies in 2.8–3.2 (NFPA 70 Chapter 9 Table 1 Informational Note No. 2, seen). A duct takes no
+// fourth loose cable, one pull each (SeparateCablesPerDuct: common practice, no published
+// source); innerducts, pulled in empty, are held to the fill alone. MayJam says which ducts
+// Takes may refuse for the jam alone.
 func TestLoadTakes(t *testing.T) {
 	t.Parallel()
 	load := func(ods ...float64) Load {
@@ -334,41 +346,47 @@ func TestLoadTakes(t *testing.T) {
 		return l
 	}
 	cases := []struct {
-		name   string
-		idMM   float64
-		held   []float64
-		odMM   float64
-		takes  bool
-		mayJam bool
+		name      string
+		idMM      float64
+		held      []float64
+		odMM      float64
+		takes     bool
+		mayJam    bool
+		innerduct bool
 	}{
-		{"empty duct, 53 %", 100, nil, 72.8, true, false},               // 72.8² = 5299.8 of 5300 (computed)
-		{"empty duct, over 53 %", 100, nil, 72.9, false, false},         // 5314.4 of 5300 (computed)
-		{"second cable, 31 %", 100, []float64{39.3}, 39.3, true, false}, // 2·39.3² = 3089.0 of 3100 (computed)
-		{"second cable, over 31 %", 100, []float64{39.5}, 39.5, false, false},
-		{"third of one size in the band", 100, []float64{33, 33}, 33, false, true},   // 1.05·100/33 = 3.18
-		{"third of one size below the band", 100, []float64{25, 25}, 25, true, true}, // 4.2
-		{"third of another size", 100, []float64{33, 33}, 25, true, true},            // spread 24 %
-		{"third after an unequal pair", 100, []float64{33, 25}, 33, true, false},
-		{"three equal in a 29 mm duct", 29, []float64{10, 10}, 10, false, true}, // 1.05·29/10 = 3.05
-		{"fourth after a jam-free third", 100, []float64{33, 33, 25}, 25, true, false},
-		{"invalid cable", 100, nil, math.NaN(), false, false},
+		{"empty duct, 53 %", 100, nil, 72.8, true, false, false},               // 72.8² = 5299.8 of 5300 (computed)
+		{"empty duct, over 53 %", 100, nil, 72.9, false, false, false},         // 5314.4 of 5300 (computed)
+		{"second cable, 31 %", 100, []float64{39.3}, 39.3, true, false, false}, // 2·39.3² = 3089.0 of 3100 (computed)
+		{"second cable, over 31 %", 100, []float64{39.5}, 39.5, false, false, false},
+		{"third of one size in the band", 100, []float64{33, 33}, 33, false, true, false},   // 1.05·100/33 = 3.18
+		{"third of one size below the band", 100, []float64{25, 25}, 25, true, true, false}, // 4.2
+		{"third of another size", 100, []float64{33, 33}, 25, true, true, false},            // spread 24 %
+		{"third after an unequal pair", 100, []float64{33, 25}, 33, true, false, false},
+		{"three equal in a 29 mm duct", 29, []float64{10, 10}, 10, false, true, false}, // 1.05·29/10 = 3.05
+		{"fourth loose cable after a jam-free third", 100, []float64{33, 33, 25}, 25, false, false, false},
+		{"fourth innerduct after a jam-free third", 100, []float64{33, 33, 25}, 25, true, false, true},
+		{"fourth thin loose cable", 100, []float64{6, 6, 6}, 6, false, false, false}, // 4·6² = 1.4 % of 40 %
+		{"fifth thin innerduct", 100, []float64{6, 6, 6, 6}, 6, true, false, true},
+		{"innerduct over 40 %", 100, []float64{40, 40, 30}, 30, false, false, true}, // 4100 of 4000 (computed)
+		{"invalid cable", 100, nil, math.NaN(), false, false, false},
 	}
 	for _, tc := range cases {
 		l := load(tc.held...)
-		if got := l.Takes(tc.idMM, tc.odMM); got != tc.takes {
+		if got := l.Takes(tc.idMM, tc.odMM, tc.innerduct); got != tc.takes {
 			t.Errorf("%s: Takes got %v, want %v", tc.name, got, tc.takes)
 		}
 		if got := l.MayJam(); got != tc.mayJam {
 			t.Errorf("%s: MayJam got %v, want %v", tc.name, got, tc.mayJam)
 		}
-		if got := FitsDuct(tc.idMM, tc.odMM, tc.held); got != tc.takes {
+		if got := FitsDuct(tc.idMM, tc.odMM, tc.held, tc.innerduct); got != tc.takes {
 			t.Errorf("%s: FitsDuct got %v, want %v", tc.name, got, tc.takes)
 		}
 	}
 }
 
 // TestCrowded: more than SeparateCablesPerDuct loose cables in a duct is crowded (common
-// practice, no published source); cables each in an innerduct never are.
+// practice, no published source); cables each in an innerduct never are. Crowded is the
+// count Takes keeps every packing to (PullLimit).
 func TestCrowded(t *testing.T) {
 	t.Parallel()
 	for _, tc := range []struct {
@@ -381,6 +399,12 @@ func TestCrowded(t *testing.T) {
 		}
 		if note := CrowdedNote(tc.cables, tc.innerduct); (note != "") != tc.want {
 			t.Errorf("%d cables, innerduct %v: note %q", tc.cables, tc.innerduct, note)
+		}
+		if tc.cables > 0 {
+			l := Load{Cables: tc.cables - 1}
+			if takes := l.Takes(100, 0.5, tc.innerduct); takes == tc.want {
+				t.Errorf("%d cables, innerduct %v: the duct holding %d takes a thin cable %v, crowded %v", tc.cables, tc.innerduct, tc.cables-1, takes, tc.want)
+			}
 		}
 	}
 }

@@ -175,7 +175,8 @@ type DuctFill struct {
 }
 
 // Note is what an installer is told of the duct: that too many separate cables are pulled into
-// it (install.CrowdedNote); "" for none or for cables that fit no duct.
+// it (install.CrowdedNote); "" for none or for cables that fit no duct. The packing keeps to
+// the count (install.Load.Takes), so a planned duct has none: the note is a check.
 func (f DuctFill) Note() string {
 	if f.Unplaced {
 		return ""
@@ -718,8 +719,9 @@ func (r *run) lateralEnd(b, id string, sp *geo.Span) (own, carried geo.Entry) {
 // the chosen cables' outside diameters, in the optimizer's order (routing.SegmentFill.Links),
 // and the ducts of new construction. Which cable goes in which duct is install.DuctBank.Spread:
 // the cables first fit places (install.DuctBank.Pull, as the optimizer packs them, in the
-// ducts it counted), spread over the span's empty ducts before a duct gets more loose cables
-// than a sound set of pulls. Cables that fit no duct get a row of their own, not OK.
+// ducts it counted: at most 3 loose cables a duct, install.PullLimit), each carried on in the
+// duct it holds on the span before where that duct takes it. Cables that fit no duct get a row
+// of their own, not OK.
 func (r *run) ductFill() {
 	e := r.Estimate
 	var design plan.Design // a Result assembled by hand may lack its plan
@@ -838,7 +840,7 @@ func (r *run) ductFill() {
 		if f.Limited {
 			sp, _ := r.Site.Net.Span(f.Span)
 			ods, legs := cables(f.Span, f.Links)
-			spans = append(spans, &limited{f: f, sp: sp, bank: install.DuctBank{Ducts: f.Ducts + f.AddedDucts, IDMM: sp.DuctMM}, ods: ods, legs: legs})
+			spans = append(spans, &limited{f: f, sp: sp, bank: install.DuctBank{Ducts: f.Ducts + f.AddedDucts, IDMM: sp.DuctMM, Innerduct: design.Innerduct()}, ods: ods, legs: legs})
 		}
 	}
 	// A cable carried on from one span into the next of its leg in the same duct (geo's
@@ -941,7 +943,7 @@ func (r *run) ductFill() {
 				}
 			}
 		}
-		x.a = x.bank.Spread(x.ods, design.Innerduct(), prefer)
+		x.a = x.bank.Spread(x.ods, prefer)
 		packed[x.sp.ID] = x
 		ductsOf[x.sp.ID] = map[string][]int{}
 		for i, leg := range x.legs {

@@ -1237,9 +1237,9 @@ func TestExistingDuctUsedOnlyWhereCablesGoIn(t *testing.T) {
 // breaks into its wall (core drill or knockout, duct terminators, sealing; common practice, no
 // published source). On the pull campus with no spare duct in D and its handhole HH-1 drawn as
 // a maintenance hole MH-1, the plan lays ducts beside D on both spans that meet at MH-1: two
-// walls entered, one per trench. The demo book leaves maintenance_hole_entry_each out, so the
-// bill lists them not priced and the summary names the key; a book with it prices them. With
-// HH-1 a handhole (knockouts, no wall to break) there is none.
+// walls entered, one per trench. The demo book without maintenance_hole_entry_each lists them
+// not priced and the summary names the key; the demo book, with it, prices them. With HH-1 a
+// handhole (knockouts, no wall to break) there is none.
 func TestHoleEntries(t *testing.T) {
 	t.Parallel()
 	mh := strings.Replace(testsite.PullCampus(25, 0), `"id":"HH-1","type":"handhole"`, `"id":"MH-1","type":"maintenance-hole"`, 1)
@@ -1250,7 +1250,8 @@ func TestHoleEntries(t *testing.T) {
 		}
 		return r
 	}
-	r := solve(mh, nil)
+	without := testplan.DemoBookWithout(t, "maintenance_hole_entry_each: 950.00")
+	r := solve(mh, func(p *plan.Plan) { p.Prices = without })
 	walls := 0 // by hand: the ends at MH-1 of the spans given added ducts
 	for _, f := range r.Fill {
 		if f.AddedDucts == 0 {
@@ -1277,8 +1278,7 @@ func TestHoleEntries(t *testing.T) {
 		t.Errorf("without a price: summary not_priced %q", got)
 	}
 
-	path := testplan.DemoBookWith(t, "maintenance_hole_entry_each: 950.00\n")
-	r2 := solve(mh, func(p *plan.Plan) { p.Prices = path })
+	r2 := solve(mh, nil)
 	line, ok = testplan.BOMLine(r2.Estimate.BOM, items.HoleEntryItem)
 	if !ok || line.NotPriced || line.Quantity != float64(walls) || line.ExtendedCents != int64(walls)*95000 {
 		t.Errorf("priced: line %+v (found %v), want %d at 950.00", line, ok, walls)

@@ -185,7 +185,8 @@ func JoinHandholes(n int) media.Quantity {
 // NewDucts is how many ducts new construction of a duct pathway is laid with at least: the
 // design's (plan.Design.NewDucts), at least one. An opened duct span is built to size: it
 // gets as many more as its cables need, packed by install.Load.Takes (NFPA 70 Chapter 9
-// Table 1 fill and its jam band, the rule the fill rows check), each an AddedDuct in the same
+// Table 1 fill and its jam band, at most 3 loose cables a duct: the rule the fill rows
+// check), each an AddedDuct in the same
 // trench; a trench beside a full duct gets the ducts its cables need or these, whichever is
 // more. The optimizer decides both counts (optimize.Edge.LaidDucts) and prices each duct with
 // AddedDuct, and the bill lays what it decided (routing.SegmentFill.AddedDucts). A counted

@@ -16,21 +16,23 @@ const FillOneCable = install.FillOneCablePct / 100
 func FillLimit(n int) float64 { return install.AllowedFillPct(max(n, 1)) / 100 }
 
 // ductPack is the state of first-fit packing of cables into ducts of one diameter, each duct
-// taking a cable by install.Load.Takes (fill, and the jam check for a third cable), the rule
+// taking a cable by install.Load.Takes (fill, the jam check for a third cable, and the count
+// of pulls: install.PullLimit, three loose cables a duct, no count for innerducts), the rule
 // the bill's duct fill check packs by. A max segment tree over the ducts' free area finds the
 // first duct with room for a cable in O(log ducts), which matters when thousands of cables
-// share a duct bank. A duct that may jam a third cable (install.Load.MayJam: two cables of
-// one size) is kept out of the tree in a group of the ducts holding the same two cables: they
-// are alike, so one Takes answers for the group and its lowest duct is the one first fit
-// would try. Placing a cable is then O(log ducts + groups), however many ducts hold a pair
+// share a duct bank; a duct at its count of pulls has no room in it. A duct that may jam a
+// third cable (install.Load.MayJam: two cables of one size) is kept out of the tree in a group
+// of the ducts holding the same two cables: they are alike, so one Takes answers for the group
+// and its lowest duct is the one first fit would try. Placing a cable is then O(log ducts + groups), however many ducts hold a pair
 // that refuses it (innerducts of one size, two to a duct, on a trunk).
 type ductPack struct {
-	ductIDMM float64
-	areaMM2  float64        // one duct's internal area
-	load     []install.Load // per duct: what it holds
-	seg      []float64      // seg[1] is the root; leaves seg[size+j] hold duct j's room
-	size     int
-	twos     []twoGroup // the ducts that may jam a third cable, by the two cables they hold
+	ductIDMM  float64
+	innerduct bool           // the cables are innerducts (Edge.Innerduct): no count of pulls
+	areaMM2   float64        // one duct's internal area
+	load      []install.Load // per duct: what it holds
+	seg       []float64      // seg[1] is the root; leaves seg[size+j] hold duct j's room
+	size      int
+	twos      []twoGroup // the ducts that may jam a third cable, by the two cables they hold
 }
 
 // twoGroup is the ducts holding the same two cables of one size (install.Load.MayJam).
@@ -40,10 +42,20 @@ type twoGroup struct {
 }
 
 // room is the area duct j has for one more cable by fill alone (an upper bound of what Takes
-// allows), or -Inf for a duct that may jam a third cable: those are found through p.twos.
+// allows), or -Inf for a duct at its count of pulls (Takes refuses it any cable) and for a
+// duct that may jam a third cable: those are found through p.twos.
 func (p *ductPack) room(j int) float64 {
 	l := &p.load[j]
 	if l.Cables == 2 && l.MayJam() {
+		return math.Inf(-1)
+	}
+	return p.roomOf(l)
+}
+
+// roomOf is the area a duct holding l has for one more cable by fill alone, or -Inf at its
+// count of pulls (install.PullLimit, which Takes keeps to).
+func (p *ductPack) roomOf(l *install.Load) float64 {
+	if l.Cables >= install.PullLimit(p.innerduct) {
 		return math.Inf(-1)
 	}
 	return FillLimit(l.Cables+1)*p.areaMM2 - l.UsedMM2
@@ -57,29 +69,30 @@ func (p *ductPack) maxRoom() float64 {
 	}
 	for i := range p.twos {
 		if g := &p.twos[i]; len(g.ducts) > 0 {
-			m = max(m, FillLimit(3)*p.areaMM2-g.load.UsedMM2)
+			m = max(m, p.roomOf(&g.load))
 		}
 	}
 	return m
 }
 
-// reset empties the packing for ducts of internal diameter ductIDMM.
-func (p *ductPack) reset(ductIDMM float64) {
-	p.ductIDMM, p.areaMM2, p.load, p.twos = ductIDMM, circleMM2(ductIDMM), p.load[:0], p.twos[:0]
+// reset empties the packing for ducts of internal diameter ductIDMM taking innerducts
+// (innerduct) or loose cables.
+func (p *ductPack) reset(ductIDMM float64, innerduct bool) {
+	p.ductIDMM, p.innerduct, p.areaMM2, p.load, p.twos = ductIDMM, innerduct, circleMM2(ductIDMM), p.load[:0], p.twos[:0]
 	for i := range p.seg {
 		p.seg[i] = math.Inf(-1)
 	}
 }
 
-// copyFrom makes p the packing saved in s, for ducts of internal diameter ductIDMM.
-func (p *ductPack) copyFrom(s *packState, ductIDMM float64) {
-	p.ductIDMM, p.areaMM2 = ductIDMM, circleMM2(ductIDMM)
+// copyFrom makes p the packing saved in s, for the ducts of edge e.
+func (p *ductPack) copyFrom(s *packState, e *Edge) {
+	p.ductIDMM, p.innerduct, p.areaMM2 = e.DuctIDMM, e.Innerduct, circleMM2(e.DuctIDMM)
 	p.copyParts(s.load, s.seg, s.size, s.twos)
 }
 
 // copyOf makes p a copy of packing q.
 func (p *ductPack) copyOf(q *ductPack) {
-	p.ductIDMM, p.areaMM2 = q.ductIDMM, q.areaMM2
+	p.ductIDMM, p.innerduct, p.areaMM2 = q.ductIDMM, q.innerduct, q.areaMM2
 	p.copyParts(q.load, q.seg, q.size, q.twos)
 }
 
@@ -178,7 +191,7 @@ func (p *ductPack) place(odMM float64) bool {
 		if j < 0 {
 			break
 		}
-		if p.load[j].Takes(p.ductIDMM, odMM) {
+		if p.load[j].Takes(p.ductIDMM, odMM, p.innerduct) {
 			best = j
 			break
 		}
@@ -186,12 +199,12 @@ func (p *ductPack) place(odMM float64) bool {
 	}
 	for i := range p.twos {
 		g := &p.twos[i]
-		if len(g.ducts) > 0 && (best < 0 || int(g.ducts[0]) < best) && g.load.Takes(p.ductIDMM, odMM) {
+		if len(g.ducts) > 0 && (best < 0 || int(g.ducts[0]) < best) && g.load.Takes(p.ductIDMM, odMM, p.innerduct) {
 			best, group = int(g.ducts[0]), i
 		}
 	}
 	if best < 0 {
-		if !(install.Load{}).Takes(p.ductIDMM, odMM) {
+		if !(install.Load{}).Takes(p.ductIDMM, odMM, p.innerduct) {
 			return false
 		}
 		p.open(odMM)
@@ -279,12 +292,14 @@ func heapPop(h *[]int32) {
 // NFPAFits reports whether cables of the given outside diameters (mm) fit in ducts ducts of
 // internal diameter ductIDMM, placing them first-fit in the given order by install.Load.Takes:
 // each duct held to the NFPA 70 Chapter 9 Table 1 fill for its cable count (53 % one, 31 % two,
-// 40 % three or more), and no third cable that would jam. First-fit in a fixed order is a
-// packing rule, not an optimal bin packing: it may use a duct more than the best arrangement
-// would. install.DuctBank.Pull places the same cables in the same ducts.
-func NFPAFits(ductIDMM float64, cableODsMM []float64, ducts int) bool {
+// 40 % three or more), no third cable that would jam, and, for loose cables (innerduct false),
+// at most install.SeparateCablesPerDuct to a duct (one pull each: common practice, no
+// published source). First-fit in a fixed order is a packing rule, not an optimal bin
+// packing: it may use a duct more than the best arrangement would. install.DuctBank.Pull
+// places the same cables in the same ducts.
+func NFPAFits(ductIDMM float64, cableODsMM []float64, ducts int, innerduct bool) bool {
 	var p ductPack
-	p.reset(ductIDMM)
+	p.reset(ductIDMM, innerduct)
 	for _, od := range cableODsMM {
 		if !p.place(od) || len(p.load) > ducts {
 			return false
@@ -352,7 +367,7 @@ func (c *capacity) needed(e int, ods []float64, cnt []int32, pack *ductPack) (ad
 		if pack != nil {
 			p = pack
 		}
-		p.reset(ed.DuctIDMM)
+		p.reset(ed.DuctIDMM, ed.Innerduct)
 		if !placeAll(p, ods, cnt) {
 			return 0, false
 		}
@@ -379,7 +394,7 @@ func (c *capacity) needed(e int, ods []float64, cnt []int32, pack *ductPack) (ad
 // places the more there.
 func (c *capacity) extend(e int, from *packState, to *ductPack, more []float64, moreCnt []int32) (added int, ok bool) {
 	ed := &c.edges[e]
-	to.copyFrom(from, ed.DuctIDMM)
+	to.copyFrom(from, ed)
 	if !placeAll(to, more, moreCnt) {
 		return 0, false
 	}
@@ -408,7 +423,7 @@ func (c *capacity) prefixNeeds(e int, ods []float64, cnt []int32) []int {
 	}
 	ed := &c.edges[e]
 	p := &c.pack
-	p.reset(ed.DuctIDMM)
+	p.reset(ed.DuctIDMM, ed.Innerduct)
 	failed := false
 	for i, od := range ods {
 		for range countAt(cnt, i) {
@@ -427,10 +442,10 @@ func (c *capacity) prefixNeeds(e int, ods []float64, cnt []int32) []int {
 }
 
 // allowedArea returns the cables' area and the NFPA area allowed in the ducts they occupy,
-// packing first-fit in order, in mm².
-func (c *capacity) allowedArea(ductIDMM float64, ods []float64, cnt []int32) (usedMM2, allowedMM2 float64) {
+// packing first-fit in order on edge ed (install.Load.Takes), in mm².
+func (c *capacity) allowedArea(ed *Edge, ods []float64, cnt []int32) (usedMM2, allowedMM2 float64) {
 	p := &c.pack
-	p.reset(ductIDMM)
+	p.reset(ed.DuctIDMM, ed.Innerduct)
 	for i, od := range ods {
 		for range countAt(cnt, i) {
 			usedMM2 += circleMM2(od)
@@ -446,9 +461,9 @@ func (c *capacity) allowedArea(ductIDMM float64, ods []float64, cnt []int32) (us
 }
 
 // NFPAFitsFor returns the FitsFunc Solve uses when Problem.Fits is nil: NFPAFits with each
-// edge's DuctIDMM, for callers that wrap or compare with the default rule.
+// edge's DuctIDMM and Innerduct, for callers that wrap or compare with the default rule.
 func NFPAFitsFor(edges []Edge) FitsFunc {
 	return func(edge int, cableODsMM []float64, ducts int) bool {
-		return NFPAFits(edges[edge].DuctIDMM, cableODsMM, ducts)
+		return NFPAFits(edges[edge].DuctIDMM, cableODsMM, ducts, edges[edge].Innerduct)
 	}
 }

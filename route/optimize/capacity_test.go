@@ -15,33 +15,44 @@ import (
 // cables 100·√(0.4/3) = 36.51 mm (computed). Three equal cables of 32.8 to 37.5 mm are jam-prone in
 // a 100 mm duct (1.05·D/d from 2.8 to 3.2, NFPA 70 Chapter 9 Table 1 Informational Note No. 2,
 // seen; the 1.05 is common practice, no published source), so three unequal ones test 40 %.
+// Loose cables go at most three to a duct, one pull each (install.SeparateCablesPerDuct, common
+// practice, no published source); innerducts, pulled in empty, are held to the fill alone.
 func TestNFPAFits(t *testing.T) {
 	t.Parallel()
 	cases := []struct {
-		name  string
-		ods   []float64
-		ducts int
-		want  bool
+		name      string
+		ods       []float64
+		ducts     int
+		want      bool
+		innerduct bool
 	}{
-		{"one cable at 53 %", []float64{72.7}, 1, true},
-		{"one cable over 53 %", []float64{72.9}, 1, false},
-		{"two cables at 31 %", []float64{39.3, 39.3}, 1, true},
-		{"two cables over 31 %", []float64{39.5, 39.5}, 1, false},
-		{"two cables over 31 %, two ducts", []float64{39.5, 39.5}, 2, true},
-		{"three cables at 40 %", []float64{40, 36, 32.9}, 1, true},    // 39.8 % (computed)
-		{"three cables over 40 %", []float64{40, 36, 33.4}, 1, false}, // 40.1 % (computed)
-		{"three equal cables in the jam band", []float64{36.5, 36.5, 36.5}, 1, false},
-		{"three equal cables in the jam band, two ducts", []float64{36.5, 36.5, 36.5}, 2, true},
-		{"three equal cables below the jam band", []float64{30, 30, 30}, 1, true},            // 1.05·100/30 = 3.5
-		{"three equal cables over 40 %, past the jam band", []float64{38, 38, 38}, 1, false}, // 2 at 28.9 %, 3 at 43.3 % (computed)
-		{"third cable 6 % apart is no jam", []float64{36.5, 36.5, 34.3}, 1, true},
-		{"second cable starts a duct, third joins the first", []float64{50, 20, 20}, 2, true},
-		{"no ducts", []float64{10}, 0, false},
-		{"nothing to pull", nil, 0, true},
+		{"one cable at 53 %", []float64{72.7}, 1, true, false},
+		{"one cable over 53 %", []float64{72.9}, 1, false, false},
+		{"two cables at 31 %", []float64{39.3, 39.3}, 1, true, false},
+		{"two cables over 31 %", []float64{39.5, 39.5}, 1, false, false},
+		{"two cables over 31 %, two ducts", []float64{39.5, 39.5}, 2, true, false},
+		{"three cables at 40 %", []float64{40, 36, 32.9}, 1, true, false},    // 39.8 % (computed)
+		{"three cables over 40 %", []float64{40, 36, 33.4}, 1, false, false}, // 40.1 % (computed)
+		{"three equal cables in the jam band", []float64{36.5, 36.5, 36.5}, 1, false, false},
+		{"three equal cables in the jam band, two ducts", []float64{36.5, 36.5, 36.5}, 2, true, false},
+		{"three equal cables below the jam band", []float64{30, 30, 30}, 1, true, false},            // 1.05·100/30 = 3.5
+		{"three equal cables over 40 %, past the jam band", []float64{38, 38, 38}, 1, false, false}, // 2 at 28.9 %, 3 at 43.3 % (computed)
+		{"third cable 6 % apart is no jam", []float64{36.5, 36.5, 34.3}, 1, true, false},
+		{"second cable starts a duct, third joins the first", []float64{50, 20, 20}, 2, true, false},
+		{"no ducts", []float64{10}, 0, false, false},
+		{"nothing to pull", nil, 0, true, false},
+		// 4·13² = 6.8 % of the area, far within 40 %: the count of pulls decides.
+		{"four loose cables, one duct", []float64{13, 13, 13, 13}, 1, false, false},
+		{"four loose cables, two ducts", []float64{13, 13, 13, 13}, 2, true, false},
+		{"seven loose cables, two ducts", slices.Repeat([]float64{13}, 7), 2, false, false},
+		{"seven loose cables, three ducts", slices.Repeat([]float64{13}, 7), 3, true, false},
+		{"four innerducts, one duct", []float64{13, 13, 13, 13}, 1, true, true},
+		{"23 innerducts, one duct", slices.Repeat([]float64{13}, 23), 1, true, true}, // 38.9 % (computed)
+		{"innerducts over 40 %", slices.Repeat([]float64{13}, 24), 1, false, true},   // 40.6 % (computed)
 	}
 	for _, tc := range cases {
-		if got := NFPAFits(100, tc.ods, tc.ducts); got != tc.want {
-			t.Errorf("%s: NFPAFits(100, %v, %d) got %v, want %v", tc.name, tc.ods, tc.ducts, got, tc.want)
+		if got := NFPAFits(100, tc.ods, tc.ducts, tc.innerduct); got != tc.want {
+			t.Errorf("%s: NFPAFits(100, %v, %d, innerduct %v) got %v, want %v", tc.name, tc.ods, tc.ducts, tc.innerduct, got, tc.want)
 		}
 	}
 }
@@ -226,13 +237,14 @@ func TestFillReport(t *testing.T) {
 // TestPackIsPull holds the optimizer's duct packing to the bill's: for random cables, many of
 // one size near the jam band, first-fit in pull order puts the same cables in the same ducts
 // as install.DuctBank.Pull, the packing the estimate's duct fill sheet shows (one rule:
-// install.Load.Takes).
+// install.Load.Takes), loose cables or innerducts.
 func TestPackIsPull(t *testing.T) {
 	t.Parallel()
 	rng := rand.New(rand.NewPCG(7, 11))
 	sizes := []float64{10, 18, 25.4, 31, 33, 34.2, 35, 36.5, 40, 52, 75}
 	for trial := range 3000 {
 		ductIDMM := []float64{29, 50, 100, 103}[rng.IntN(4)]
+		innerduct := rng.IntN(2) == 0
 		ods := make([]float64, rng.IntN(40))
 		for i := range ods {
 			ods[i] = sizes[rng.IntN(len(sizes))]
@@ -241,14 +253,14 @@ func TestPackIsPull(t *testing.T) {
 			}
 		}
 		var p ductPack
-		p.reset(ductIDMM)
+		p.reset(ductIDMM, innerduct)
 		var placed []float64
 		for _, od := range ods {
 			if p.place(od) {
 				placed = append(placed, od)
 			}
 		}
-		a := install.DuctBank{Ducts: len(placed), IDMM: ductIDMM}.Pull(placed)
+		a := install.DuctBank{Ducts: len(placed), IDMM: ductIDMM, Innerduct: innerduct}.Pull(placed)
 		if !a.OK {
 			t.Fatalf("trial %d: Pull left %d of %v unplaced in %d ducts of %g mm, the optimizer placed them all",
 				trial, a.Unplaced, placed, len(placed), ductIDMM)
@@ -268,7 +280,7 @@ func TestPackIsPull(t *testing.T) {
 		}
 		// A cable the optimizer could not place fits not even an empty duct.
 		for _, od := range ods {
-			if !(install.Load{}).Takes(ductIDMM, od) && slices.Contains(placed, od) {
+			if !(install.Load{}).Takes(ductIDMM, od, innerduct) && slices.Contains(placed, od) {
 				t.Fatalf("trial %d: a %g mm cable no empty %g mm duct takes was placed", trial, od, ductIDMM)
 			}
 		}

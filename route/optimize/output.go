@@ -96,7 +96,7 @@ func (sv *solver) solution() *Solution {
 			for i, u := range users {
 				fill.Demands[i] = int(u)
 			}
-			fill.UsedAreaMM2, fill.AllowedAreaMM2 = sv.cap.allowedArea(ed.DuctIDMM, ods, cnt)
+			fill.UsedAreaMM2, fill.AllowedAreaMM2 = sv.cap.allowedArea(ed, ods, cnt)
 			prev := 0
 			for i, k := range sv.cap.prefixNeeds(e, ods, cnt) {
 				if k > prev {

@@ -87,6 +87,12 @@ type Edge struct {
 	// k added ducts cost max(k, AddTrenchDucts) ducts (0 or 1: just the ducts added). In
 	// [0, install.MaxBankDucts].
 	AddTrenchDucts int
+
+	// Innerduct says that what the edge's ducts take (Option.CableODMM) are innerducts, each
+	// pulled in empty and holding one cable: a duct takes as many as fill and the jam band
+	// allow. False: loose cables, at most install.SeparateCablesPerDuct to a duct, one pull
+	// each (install.PullLimit, the count install.Load.Takes keeps to).
+	Innerduct bool
 }
 
 // limited reports whether the edge's capacity is checked (and its added ducts priced).

@@ -181,7 +181,8 @@ type Solution struct {
 	// fits the problem but not the ducts: kept after the start routes kept before it (in
 	// demand order), its cables would leave the ducts of capacity-limited edges overfull by
 	// the packing every plan is held to (state.go's flush, capacity.go's rule: NFPA 70
-	// Chapter 9 Table 1 fill and the jam band): no duct there has room and none may be added,
+	// Chapter 9 Table 1 fill, the jam band and the count of pulls, install.Load.Takes): no
+	// duct there has room and none may be added,
 	// or a cable is wider than one duct takes. Nil when there are none.
 	StartNoRoom []StartNoRoom
 }

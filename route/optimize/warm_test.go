@@ -169,8 +169,8 @@ func TestPlaceOnly(t *testing.T) {
 
 // overfullEdges lists the capacity-limited edges of sol whose cables, packed first-fit in the
 // fill's order, do not fit the ducts the edge has and the plan laid there: NFPA 70 Chapter 9
-// Table 1 (53 % of a duct for one cable, 31 % for two, 40 % for three or more) and its jam
-// band, the rule NFPAFits packs by (TestNFPAFits holds it to the table).
+// Table 1 (53 % of a duct for one cable, 31 % for two, 40 % for three or more), its jam band
+// and the count of pulls, the rule NFPAFits packs by (TestNFPAFits holds it to the table).
 func overfullEdges(p *Problem, sol *Solution) []int {
 	var over []int
 	for _, f := range sol.Fill {
@@ -189,7 +189,7 @@ func overfullEdges(p *Problem, sol *Solution) []int {
 		if ed.MayAddDucts() {
 			ducts += f.AddedDucts
 		}
-		if !NFPAFits(ed.DuctIDMM, ods, ducts) {
+		if !NFPAFits(ed.DuctIDMM, ods, ducts, ed.Innerduct) {
 			over = append(over, f.Edge)
 		}
 	}
@@ -295,4 +295,52 @@ func TestWarmStartFullBank(t *testing.T) {
 	}
 	t.Logf("%d full banks, %d base routes through them; warm %d infeasible, %d cents, %d placed afresh (%d for no room); cold %d infeasible, %d cents",
 		len(full), len(through), len(warm.Infeasible), warm.TotalCents, len(warm.StartUnused), len(warm.StartNoRoom), len(cold.Infeasible), cold.TotalCents)
+}
+
+// TestWarmStartSoundPulls: the warm start's room check (fullEdges) keeps to the count of pulls
+// as every packing does. Four thin cables (5 mm: four fill 5 % of a 50 mm duct, within NFPA 70
+// Chapter 9 Table 1's 40 %) start on the short way through one spare duct where none may be
+// added: three are kept (three loose cables a duct, install.SeparateCablesPerDuct: common
+// practice, no published source), the fourth finds no room (StartNoRoom names the bank) and
+// goes the long way round. Innerducts (Edge.Innerduct), pulled in empty, are held to the
+// fill alone: all four keep the short way.
+func TestWarmStartSoundPulls(t *testing.T) {
+	t.Parallel()
+	short := [][]Hop{{{Edge: 0, Forward: true}, {Edge: 1, Forward: true}}}
+	for _, tc := range []struct {
+		name      string
+		innerduct bool
+		noRoom    string // fmt of StartNoRoom
+		onShort   int
+	}{
+		{"loose cables", false, "[{3 [0]}]", 3},
+		{"innerducts", true, "[]", 4},
+	} {
+		edges := capNet(1, 0)
+		edges[0].Innerduct = tc.innerduct
+		p := &Problem{Nodes: 4, Edges: edges, Demands: capDemands(4, 5)}
+		var start []StartRoute
+		for _, d := range p.Demands {
+			start = append(start, StartRoute{ID: d.ID, Option: 0, Legs: short})
+		}
+		sol, err := Solve(p, Settings{Start: start})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got := fmt.Sprint(sol.StartNoRoom); got != tc.noRoom {
+			t.Errorf("%s: StartNoRoom %s, want %s", tc.name, got, tc.noRoom)
+		}
+		onShort := 0
+		for _, r := range sol.Routes {
+			if len(r.Primary.Hops) > 0 && r.Primary.Hops[0].Edge == 0 {
+				onShort++
+			}
+		}
+		if onShort != tc.onShort || len(sol.Infeasible) != 0 {
+			t.Errorf("%s: %d routes the short way, %d infeasible; want %d, none", tc.name, onShort, len(sol.Infeasible), tc.onShort)
+		}
+		if over := overfullEdges(p, sol); len(over) != 0 {
+			t.Errorf("%s: overfull edges %v", tc.name, over)
+		}
+	}
 }

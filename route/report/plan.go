@@ -236,7 +236,9 @@ type planView struct {
 	DuctsOver   int
 	NoDuct      string // how many cables fit no duct of their span (estimate.DuctFill.Unplaced), "" for none
 	// Crowded counts the ducts given more separate cables than sound pulls allow
-	// (install.Crowded), of every duct, listed or not; Separate is that number of cables.
+	// (install.Crowded), of every duct, listed or not; Separate is that number of cables. The
+	// packing keeps to that count (install.Load.Takes) and the campus declares no cable
+	// already in a duct, so it is 0 on every plan spanwright makes: a check, not a finding.
 	Crowded, Separate int
 	HasEst            bool
 	Pulls             []pullRow

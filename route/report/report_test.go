@@ -181,7 +181,7 @@ func TestPlanContent(t *testing.T) {
 		"Cost by category", money(s.TotalCents) + " USD", "budget " + money(*s.BudgetCents),
 		// The gap to the bound as the terminal prints it (output.GapText, in percent).
 		", gap " + output.GapText(s.GapPct) + " <span",
-		"13,357.8 m", // total route of the demo, as summary.json has it
+		"13,487.8 m", // total route of the demo, as summary.json has it
 		// The safety cautions the demo's work calls for (route.Result.Cautions): locates, trench
 		// (29 CFR 1926 Subpart P), bore, the pole line, the tunnel, maintenance holes, lasers.
 		"one-call service", "invisible", "confined spaces", "<b>Trench cave-in.</b>", "29 CFR 1926 Subpart P",
@@ -227,10 +227,9 @@ func TestPlanContent(t *testing.T) {
 // TestPlanImperial shows lengths in feet (1 ft = 0.3048 m exactly).
 func TestPlanImperial(t *testing.T) {
 	html := render(t, demoPlan, Options{Units: output.UnitsImperial})
-	// The unrounded 13 357.7… m (summary.json: 13 357.8) / 0.3048 = 43 824.7 ft, where the
-	// rounded 13 357.8 m would give 43 824.8 ft: the metres
+	// The demo's total route, 13 487.8 m (summary.json) / 0.3048 = 44 251.3 ft; the metres
 	// are converted before rounding (output.Units.Rounded), as in every other output.
-	if !strings.Contains(html, "43,824.7 ft") {
+	if !strings.Contains(html, "44,251.3 ft") {
 		t.Error("imperial report lacks the total route in feet")
 	}
 	if !strings.Contains(html, "lengths in ft") || !strings.Contains(html, "Tension (lbf)") {

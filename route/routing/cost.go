@@ -346,6 +346,9 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 					m.cents(items.HoleEntries(items.HoleWalls(s, sp))...)
 			}
 		}
+		// Innerduct: the ducts take innerducts (each pulled in empty, one cable in it), not
+		// loose cables held to three a duct (install.PullLimit).
+		e.Innerduct = e.DuctIDMM > 0 && d.Innerduct()
 		p.Edges[i] = e
 	}
 	for k, x := range lay.extra {

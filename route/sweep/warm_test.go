@@ -277,6 +277,9 @@ func TestWarmBaseOrder(t *testing.T) {
 			objectives[order.name][id] = s.ObjectiveCents
 		}
 	}
+	for _, name := range []string{"forward", "reversed", "cold"} {
+		t.Logf("%s: %v", name, objectives[name])
+	}
 	if len(objectives["forward"]) != 4 {
 		t.Fatalf("forward: scenarios %v, want 4", objectives["forward"])
 	}

@@ -238,6 +238,27 @@ func DemoBookWith(tb testing.TB, extra string) string {
 	return path
 }
 
+// DemoBookWithout writes the demo price book (invented prices) without its line line (the
+// whole line, without its newline) into a temporary file of tb and returns the file's path;
+// it fails tb when the book has no such line.
+func DemoBookWithout(tb testing.TB, line string) string {
+	tb.Helper()
+	_, here, _, _ := runtime.Caller(0)
+	data, err := os.ReadFile(filepath.Join(filepath.Dir(here), "..", "..", "..", "media", "prices-demo.yaml"))
+	if err != nil {
+		tb.Fatal(err)
+	}
+	out := bytes.Replace(data, []byte("\n"+line+"\n"), []byte("\n"), 1)
+	if len(out) == len(data) {
+		tb.Fatalf("demo price book: no line %q", line)
+	}
+	path := filepath.Join(tb.TempDir(), "prices.yaml")
+	if err := os.WriteFile(path, out, 0o644); err != nil {
+		tb.Fatal(err)
+	}
+	return path
+}
+
 // TransitionBooks writes two edits of the demo price book (invented prices) into a temporary
 // folder of tb and returns it: indoor/outdoor single-mode at 6.26 a metre instead of 3.26, so
 // that over short routes entrance transitions (enclosures, trays and splices) cost less than

@@ -278,6 +278,28 @@ func FanCampus(ductMM float64, spare int, proposed bool) string {
 	return `{"type":"FeatureCollection","features":[` + strings.Join(f, ",") + `]}`
 }
 
+// FanN is hub A and n buildings B1…Bn, every one reached over one duct T (spare ducts of
+// ductMM, or, proposed, new construction under turf whose ducts are of ductMM) from A's wall
+// to a junction at (200, 0), where a direct-buried pathway (no duct limit) runs straight to
+// each building: B1, B3, … north at x = 120, 160, … (centres at y = 125), B2, B4, … south
+// (y = -125). Every link's cable crosses T, and there is no other way.
+func FanN(ductMM float64, spare, n int, proposed bool) string {
+	t := fmt.Sprintf(`,"spare_ducts":%d,"duct_mm":%g`, spare, ductMM)
+	if proposed {
+		t = fmt.Sprintf(`,"status":"proposed","surface":"turf","duct_mm":%g`, ductMM)
+	}
+	f := []string{Box("A", "mc", 10, 25), fanWay("T", "duct", t, fanLine(10, 15, 10, 0, 200, 0))}
+	for i := range n {
+		x, side := 120+40*float64(i/2), 1.0
+		if i%2 == 1 {
+			side = -1
+		}
+		id := fmt.Sprintf("B%d", i+1)
+		f = append(f, Box(id, "", x, side*125), fanWay("F"+id, "buried", "", fanLine(200, 0, x, side*115)))
+	}
+	return `{"type":"FeatureCollection","features":[` + strings.Join(f, ",") + `]}`
+}
+
 // CopperFan is hub A and buildings B and C, 42 and 35 m of pathway from it, both reached over one duct T
 // (one spare duct of 21 mm) that ends at a junction where roomy duct banks fan out (not
 // direct-buried: outdoor copper is not rated for burial, rule direct-burial).
