@@ -42,6 +42,10 @@ type Estimate struct {
 	// AddedPullPoints is the number of distinct intermediate pull points the pulls need, each
 	// billed as a handhole; legs that need one at the same place share it.
 	AddedPullPoints int
+	// PullPointsAdded are those pull points, each once (as AddedPullPoints counts them), in
+	// the order the legs' pulls first add them: where each is, for the safety cautions that
+	// name every handhole the plan digs.
+	PullPointsAdded []PullPoint
 	Fill            []DuctFill // each duct holding cable on a span of limited capacity, by span and duct
 	// SplicePoints is every splice point to build (a mid-span join no structure within its
 	// reel's reach takes, routing.SplicePoint.NoStructure), one a place, in the order the legs
@@ -369,7 +373,10 @@ func Build(ctx context.Context, in Input) (*Estimate, error) {
 	for _, p := range pulls {
 		e.Pulls = append(e.Pulls, p.sections...)
 		e.Warnings = append(e.Warnings, p.warnings...)
-		for _, k := range p.added {
+		for n, k := range p.added {
+			if !added[k] {
+				e.PullPointsAdded = append(e.PullPointsAdded, p.addedAt[n])
+			}
 			added[k] = true
 		}
 	}
@@ -404,17 +411,18 @@ func Build(ctx context.Context, in Input) (*Estimate, error) {
 type legPulls struct {
 	sections []PullSection
 	warnings []string
-	added    []string // the intermediate pull points it adds, keyed by place
+	added    []string    // the intermediate pull points it adds, keyed by place
+	addedAt  []PullPoint // where each of added is, parallel to it
 }
 
 // ends records the pull points section sec adds at its ends (keyed fromKey and toKey) and
 // the end ps is fed from, the one with the lower tension, with the other way's tension.
 func (e *legPulls) ends(ps *PullSection, sec *install.Section, fromKey, toKey string) {
 	if sec.StartAdded {
-		e.added = append(e.added, fromKey)
+		e.added, e.addedAt = append(e.added, fromKey), append(e.addedAt, ps.From)
 	}
 	if sec.EndAdded {
-		e.added = append(e.added, toKey)
+		e.added, e.addedAt = append(e.added, toKey), append(e.addedAt, ps.To)
 	}
 	ps.FeedAt, ps.OtherN = ps.From, sec.Reverse.MaxTensionN
 	if sec.Best == install.Reverse {

@@ -184,7 +184,7 @@ func TestPlanContent(t *testing.T) {
 		"13,357.8 m", // total route of the demo, as summary.json has it
 		// The safety cautions the demo's work calls for (route.Result.Cautions): locates, trench
 		// (29 CFR 1926 Subpart P), bore, the pole line, the tunnel, maintenance holes, lasers.
-		"one-call service", "invisible", "confined spaces", "<b>Trench cave-in.</b>", "29 CFR 1926 Subpart P",
+		"one-call service", "invisible", "confined spaces", "<b>Trench and excavation cave-in.</b>", "29 CFR 1926 Subpart P",
 		"<b>Directional bore.</b>", "<b>Pole lines.</b>", "29 CFR 1910.268(n)", "<b>Utility tunnels.</b>",
 		"In this plan: 3 legs on aerial pathways ", "authority having jurisdiction",
 		// The cable's own jacket beside the medium: the demo's outside-plant legs are black
