@@ -589,6 +589,21 @@ func newWorkM(e *estimate.Estimate) float64 {
 // own, and the cable bought as cableCut in their unit, the pieces as written added up.
 type Totals struct{ RouteM, CableM, NewM float64 }
 
+// NewWorkParts is what the new trench figure (estimate.Construction.NewM) holds besides
+// trench, with lengths written by length: "155.0 m of it bored; 45.0 m of it building
+// laterals", "" when neither. The one text of it the terminal and the report print, so the
+// report's summary no longer calls bored metres new trench alone (tester 11's finding 13).
+func NewWorkParts(c estimate.Construction, length func(m float64) string) string {
+	var of []string
+	if c.BoreM > 0 {
+		of = append(of, length(c.BoreM)+" of it bored")
+	}
+	if c.LateralM > 0 {
+		of = append(of, length(c.LateralM)+" of it building laterals")
+	}
+	return strings.Join(of, "; ")
+}
+
 // TotalsOf adds up the totals of r.
 func TotalsOf(r *route.Result) Totals {
 	t := Totals{NewM: newWorkM(r.Estimate), CableM: cutOf(WriteOptions{}, r).all()}
@@ -836,16 +851,9 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 		return nil
 	}
 	c := e.Construction
-	var of []string
-	if c.BoreM > 0 {
-		of = append(of, length(c.BoreM)+" of it bored")
-	}
-	if c.LateralM > 0 {
-		of = append(of, length(c.LateralM)+" of it building laterals")
-	}
 	bored := ""
-	if len(of) > 0 {
-		bored = " (" + strings.Join(of, "; ") + ")"
+	if of := NewWorkParts(c, length); of != "" {
+		bored = " (" + of + ")"
 	}
 	taps := ""
 	if len(c.TapJunctions) > 0 {

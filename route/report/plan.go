@@ -204,34 +204,36 @@ type planView struct {
 	Feasible   int
 	TotalRoute string
 	NewTrench  string
-	Laterals   string // the building laterals' part of NewTrench, "" for none
-	Opened     string // "N proposed spans"
-	Worst      string
-	Total      string
-	PricedNote string // output.Summary.PricedNote
-	NotPriced  string // output.Summary.NotPricedNote
-	Budget     string
-	Over       string
-	OverPct    string
-	IsOver     bool
-	HasBudget  bool
-	BudgetBar  struct{ TotalW, BudgetX, Class, LabelX, Anchor, BudgetAnchor string }
-	Costs      []bar
-	CostsH     string
-	Media      []mediumRow
-	Map        mapView
-	Legend     legend
-	Legs       []legRow
-	Infeasible int
-	Wavelength []int
-	ReasonSpan int // columns of the links table the reason row spans
-	DesignDB   string
-	Fill       []fillRow
-	FillOver   int
-	FillOpen   int
-	Ducts      []ductRow
-	DuctsOver  int
-	NoDuct     string // how many cables fit no duct of their span (estimate.DuctFill.Unplaced), "" for none
+	// NewWorkParts is NewTrench's bored and building laterals' parts (output.NewWorkParts),
+	// "" for none.
+	NewWorkParts string
+	Opened       string // "N proposed spans"
+	Worst        string
+	Total        string
+	PricedNote   string // output.Summary.PricedNote
+	NotPriced    string // output.Summary.NotPricedNote
+	Budget       string
+	Over         string
+	OverPct      string
+	IsOver       bool
+	HasBudget    bool
+	BudgetBar    struct{ TotalW, BudgetX, Class, LabelX, Anchor, BudgetAnchor string }
+	Costs        []bar
+	CostsH       string
+	Media        []mediumRow
+	Map          mapView
+	Legend       legend
+	Legs         []legRow
+	Infeasible   int
+	Wavelength   []int
+	ReasonSpan   int // columns of the links table the reason row spans
+	DesignDB     string
+	Fill         []fillRow
+	FillOver     int
+	FillOpen     int
+	Ducts        []ductRow
+	DuctsOver    int
+	NoDuct       string // how many cables fit no duct of their span (estimate.DuctFill.Unplaced), "" for none
 	// Crowded counts the ducts given more separate cables than sound pulls allow
 	// (install.Crowded), of every duct, listed or not; Separate is that number of cables.
 	Crowded, Separate int
@@ -426,8 +428,8 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 	tot := output.TotalsOf(r)
 	v.TotalRoute = opt.lengthU(tot.RouteM)
 	v.NewTrench = opt.lengthU(tot.NewM)
-	if r.Estimate != nil && r.Estimate.Construction.LateralM > 0 {
-		v.Laterals = opt.lengthU(r.Estimate.Construction.LateralM)
+	if r.Estimate != nil {
+		v.NewWorkParts = output.NewWorkParts(r.Estimate.Construction, opt.lengthU)
 	}
 	v.Opened = output.Counted(len(r.Opened), "proposed span", "proposed spans")
 	if s.WorstMarginDB != nil {
