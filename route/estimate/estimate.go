@@ -230,6 +230,10 @@ type Construction struct {
 	// spans and ducts added beside full ones): each takes an entry (items.HoleWalls,
 	// items.HoleEntries).
 	HoleWalls int
+	// HoleEntries are those entries, one per wall, in the order counted: the maintenance
+	// hole (junction ID) and the span whose new duct enters it (items.HolesEntered), which
+	// the bill's line is from and the structures table names.
+	HoleEntries []HoleEntry
 	// NewJunctions, TapJunctions and TurnJunctions are the handholes the plan adds at
 	// junctions with no structure (routing.Routed.Handholes), each junction in one of them
 	// only, under the first of its reasons (routing.Handhole.Purpose), by junction ID in the
@@ -336,6 +340,19 @@ func fromBuilding(b string) string  { return "building " + b }
 func fromSpan(id string) string     { return "span " + id }
 func fromEntrance(e routing.EntranceUse) string {
 	return "entrance " + e.Entrance + " of building " + e.Building
+}
+
+// fromHoleEntry names a maintenance hole entry by the hole and the span whose new duct
+// enters it (tester 11's finding 12: the bill named the span alone).
+func fromHoleEntry(hole, span string) string { return "maintenance hole " + hole + " for span " + span }
+
+// fromPoleRiser names a pole riser by the handhole at the pole's foot (the lateral's tap)
+// and the entrance whose lateral comes down it.
+func fromPoleRiser(e routing.EntranceUse) string {
+	if e.Tap == "" {
+		return fromEntrance(e)
+	}
+	return "junction " + e.Tap + " for the lateral of " + fromEntrance(e)
 }
 func fromJunctions(ids []string) []string {
 	out := make([]string, len(ids))
@@ -1325,11 +1342,25 @@ func (r *run) construction() {
 // holeWalls counts the walls of existing maintenance holes the new duct or buried cable along span sp enters
 // (items.HoleWalls), and the span among those the bill line is from.
 func (c *Construction) holeWalls(s *site.Site, sp *geo.Span, from map[string][]string) {
-	if n := items.HoleWalls(s, sp); n > 0 {
-		c.HoleWalls += n
-		from[keyHoleWall] = append(from[keyHoleWall], fromSpan(sp.ID))
+	for _, hole := range items.HolesEntered(s, sp) {
+		c.HoleWalls++
+		c.HoleEntries = append(c.HoleEntries, HoleEntry{Hole: hole, Span: sp.ID})
+		from[keyHoleWall] = append(from[keyHoleWall], fromHoleEntry(hole, sp.ID))
 	}
 }
+
+// HoleEntry is one wall of an existing maintenance hole that new duct (or a new trench's
+// buried cable) enters: the hole's junction ID and the span of the new work.
+type HoleEntry struct{ Hole, Span string }
+
+// HoleEntryPurpose is the structures table's purpose of a maintenance hole that new duct
+// along span enters (Construction.HoleEntries): "new duct entry (D-12)".
+func HoleEntryPurpose(span string) string { return "new duct entry (" + span + ")" }
+
+// PoleRiserPurpose is the structures table's purpose of the handhole at a pole's foot that
+// a counted lateral's riser comes down into (routing.EntranceUse.PoleRiser, its Tap):
+// "pole riser (lateral of FARM:1)".
+func PoleRiserPurpose(entrance string) string { return "pole riser (lateral of " + entrance + ")" }
 
 // assumedWarning is the one line that tells an estimator how much new trench was priced on
 // the design's assumed surface; "" when none was. The report lists each span and lateral.
@@ -1644,7 +1675,7 @@ func (r *run) quantities() {
 	var risers []string
 	for _, en := range con.Entrances {
 		if en.PoleRiser && en.LateralM > 0 {
-			risers = append(risers, fromEntrance(en))
+			risers = append(risers, fromPoleRiser(en))
 		}
 	}
 	for _, q := range items.PoleRisers(len(risers)) {
