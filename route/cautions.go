@@ -359,8 +359,7 @@ func pitsOf(r *Result) []pit {
 		}
 	}
 	for _, sp := range e.SplicePoints {
-		span, ok := net.Span(sp.At.Span)
-		if !ok || span.Type == geo.TypeAerial {
+		if !sp.At.BuildsHandhole(net) {
 			continue
 		}
 		add(pit{name: estimate.PullPoint{Span: sp.At.Span, AtM: sp.At.AtM, End: sp.At.End}.Text(estimate.MetresText), spans: []string{sp.At.Span}})

@@ -1544,13 +1544,24 @@ func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg) []
 	// passes or ends at (the campus's structures, and the handholes the plan builds on its
 	// way: routing.CableTakeoff.Structures), an entry at each maintenance hole or handhole among them (the
 	// structures passed, the count its slack loops have), both ends prepared.
-	var pull float64
+	// A splice point to build (a join no structure takes) is a pull point too, where the next
+	// reel's pull starts, and one built as a handhole is entered to splice (tester 11's
+	// finding 5: README's "every handhole the plan builds that it passes").
+	var pull, entered float64
 	for _, j := range s.JunctionsOf(l.Steps) {
 		if items.PullPoint(s, j) {
 			pull++
 		}
 	}
-	times(n, items.AtJunctions(p, 1+pull+float64(t.AddedStructures), float64(t.Structures))...)
+	for _, sp := range t.Splices {
+		if sp.NoStructure {
+			pull++
+		}
+		if sp.BuildsHandhole(s.Net) {
+			entered++
+		}
+	}
+	times(n, items.AtJunctions(p, 1+pull+float64(t.AddedStructures), float64(t.Structures)+entered)...)
 	// Every cable end is prepared: both ends of each cable, and those a transition or a
 	// mid-span join adds (CableTakeoff.CableEnds); every transition enclosure and splice
 	// closure is installed. Common practice, no published source: a crew task per cable end

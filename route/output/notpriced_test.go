@@ -523,3 +523,75 @@ func TestPullsEndAtSplicePoints(t *testing.T) {
 		t.Fatal("no splice point to build on a duct span: nothing to test")
 	}
 }
+
+// TestCrewEntriesFollowTheStructuresTable plans the demo with reels of 300 m, so that joins
+// fall where no structure is (one on S-LDG, a handhole; three on the pole line, closures) (splice points to build), and holds the bill's crew entries
+// to the structures table (tester 11's finding 5: the splice point the plan builds had no entry):
+// each cable of each leg is entered once into every maintenance hole and handhole row that
+// lists the leg, the splice points to build that are handholes among them, but a pull box
+// (no slack loop stored, no entry) and the pulling plan's added pull points, which the README
+// leaves to the pulls. And every splice point to build starts a pull of its own (the next
+// reel), so the set-ups grow by one per cable joined there over the demo's reels of 4,000 m.
+// README "Crews": a set-up per pull between pull points, an entry per cable per maintenance
+// hole or handhole passed (common practice, no published source).
+func TestCrewEntriesFollowTheStructuresTable(t *testing.T) {
+	t.Parallel()
+	r := reelDemoOf(t, 300)
+	rows, err := StructuresOf(r)
+	if err != nil {
+		t.Fatal(err)
+	}
+	cables := map[string]int{}
+	for _, l := range r.Legs {
+		if l.Feasible {
+			cables[l.Label()] = l.Cable.Cables
+		}
+	}
+	want, handholeSplices := 0, 0
+	for _, st := range rows {
+		if st.Type == geo.StructurePullBox || st.Type == TypeSpliceClosure || st.Purpose == PurposePull {
+			continue
+		}
+		if st.Purpose == PurposeSplice {
+			handholeSplices++
+		}
+		for _, leg := range st.Legs {
+			want += cables[leg]
+		}
+	}
+	if handholeSplices == 0 {
+		t.Fatal("no splice point to build as a handhole: nothing to test")
+	}
+	entries, ok := testplan.BOMLine(r.Estimate.BOM, "crew entry into a structure, per cable")
+	if !ok || entries.Quantity != float64(want) {
+		t.Errorf("bill's crew entries %v (found %v), the structures table's %d", entries.Quantity, ok, want)
+	}
+
+	// The set-ups: the same plan's legs with their splice points to build taken out add one
+	// set-up per cable per such join, and no other line of crew labour moves.
+	extra := 0
+	for _, l := range r.Legs {
+		for _, sp := range l.Cable.Splices {
+			if l.Feasible && sp.NoStructure {
+				extra += l.Cable.Cables
+			}
+		}
+	}
+	setups, _ := testplan.BOMLine(r.Estimate.BOM, "crew set-up, per pull")
+	pulls := 0
+	for _, l := range r.Legs {
+		if !l.Feasible {
+			continue
+		}
+		points := 1 // the pulls of a cable are its pull points passed plus one
+		for _, j := range r.Site.JunctionsOf(l.Steps) {
+			if r.Site.IsStructure(j) {
+				points++
+			}
+		}
+		pulls += l.Cable.Cables * (points + l.Cable.AddedStructures)
+	}
+	if setups.Quantity != float64(pulls+extra) {
+		t.Errorf("bill's crew set-ups %v, want %d: %d from the structures and handholes passed, %d from the splice points to build", setups.Quantity, pulls+extra, pulls, extra)
+	}
+}

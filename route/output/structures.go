@@ -330,8 +330,8 @@ func splicePointsOnSpans(r *route.Result) []splicePoint {
 			continue
 		}
 		typ := geo.StructureHandhole
-		if span.Type == geo.TypeAerial {
-			typ = TypeSpliceClosure
+		if !sp.At.BuildsHandhole(r.Site.Net) {
+			typ = TypeSpliceClosure // on an aerial span's strand
 		}
 		out = append(out, splicePoint{SplicePointToBuild: sp, point: span.PointAt(sp.At.AtM), typ: typ})
 	}
