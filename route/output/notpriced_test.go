@@ -595,3 +595,39 @@ func TestCrewEntriesFollowTheStructuresTable(t *testing.T) {
 		t.Errorf("bill's crew set-ups %v, want %d: %d from the structures and handholes passed, %d from the splice points to build", setups.Quantity, pulls+extra, pulls, extra)
 	}
 }
+
+// TestCautionsNameEveryPit holds the excavation cautions to the structures table (tester 11's
+// finding 1): every handhole the table lists to build is a pit a crew digs and enters, which
+// the cave-in caution names and the locates count (29 CFR 1926.650(b): an excavation is any
+// man-made cut, cavity, trench or depression formed by earth removal, from memory; one-call
+// laws, from memory); a splice closure on an aerial strand digs nothing. The demo with reels
+// of 300 m builds a splice point in a handhole on S-LDG and three closures on the pole line.
+func TestCautionsNameEveryPit(t *testing.T) {
+	t.Parallel()
+	for _, reelM := range []float64{300, 4000} {
+		r := reelDemoOf(t, reelM)
+		rows, err := StructuresOf(r)
+		if err != nil {
+			t.Fatal(err)
+		}
+		var pits []string
+		for _, st := range rows {
+			if st.Status == StructureToBuild && st.Type == geo.StructureHandhole {
+				pits = append(pits, st.Place(estimate.MetresText))
+			}
+		}
+		where := map[string]string{}
+		for _, c := range r.Cautions {
+			where[c.ID] = c.Where
+		}
+		count := Counted(len(pits), "handhole to set", "handholes to set")
+		if !strings.Contains(where[route.CautionLocates], count) || !strings.Contains(where[route.CautionTrench], count+": ") {
+			t.Errorf("reels of %g m: %d handholes to build in the structures table; locates %q, cave-in %q", reelM, len(pits), where[route.CautionLocates], where[route.CautionTrench])
+		}
+		for _, p := range pits {
+			if !strings.Contains(where[route.CautionTrench], p) {
+				t.Errorf("reels of %g m: the cave-in caution does not name %q: %q", reelM, p, where[route.CautionTrench])
+			}
+		}
+	}
+}
