@@ -354,6 +354,7 @@ func fromPoleRiser(e routing.EntranceUse) string {
 	}
 	return "junction " + e.Tap + " for the lateral of " + fromEntrance(e)
 }
+
 func fromJunctions(ids []string) []string {
 	out := make([]string, len(ids))
 	for i, id := range ids {
