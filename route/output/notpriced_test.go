@@ -629,5 +629,29 @@ func TestCautionsNameEveryPit(t *testing.T) {
 				t.Errorf("reels of %g m: the cave-in caution does not name %q: %q", reelM, p, where[route.CautionTrench])
 			}
 		}
+		// The terminal says the splice points to build beside its handholes, which leave them
+		// out (the bill's handhole lines), so that its figures add up to the cautions'.
+		var term bytes.Buffer
+		if err := PrintSummary(&term, r, WriteOptions{}); err != nil {
+			t.Fatal(err)
+		}
+		s := Summarize(r)
+		want := fmt.Sprintf("(%s to build in all, with the %d where routes turn)", Counted(s.HandholesToBuild, "handhole", "handholes"), s.TurnHandholes)
+		if n := len(r.Estimate.SplicePoints); n > 0 {
+			want = fmt.Sprintf("(%s to build in all, with the %d where routes turn; and %s to build)", Counted(s.HandholesToBuild, "handhole", "handholes"), s.TurnHandholes,
+				Counted(n, "splice point", "splice points"))
+		}
+		if !strings.Contains(term.String(), want) {
+			t.Errorf("reels of %g m: terminal lacks %q:\n%s", reelM, want, term.String())
+		}
+		dug := 0
+		for _, sp := range r.Estimate.SplicePoints {
+			if sp.At.BuildsHandhole(r.Site.Net) {
+				dug++
+			}
+		}
+		if s.HandholesToBuild+dug != len(pits) {
+			t.Errorf("reels of %g m: %d handholes to build and %d splice points dug, the cautions' %d handholes to set", reelM, s.HandholesToBuild, dug, len(pits))
+		}
 	}
 }

@@ -863,9 +863,17 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 	if s.TurnHandholes > 0 {
 		turns = fmt.Sprintf(", with the %d where routes turn", s.TurnHandholes)
 	}
-	fmt.Fprintf(w, "construction: new trench %s%s, added duct %s, %s where new pathway joins, %d along new construction%s, %d for added pull points (%s to build in all%s); %s used\n",
+	// The splice points to build (estimate.Estimate.SplicePoints) are billed on a line of
+	// their own, not among the handholes, though most are dug as handholes (not a closure on an
+	// aerial strand): said beside them, so that a reader can add the terminal's handholes to
+	// the cautions' handholes to set (tester 11's finding 1).
+	splices := ""
+	if n := len(e.SplicePoints); n > 0 {
+		splices = "; and " + Counted(n, "splice point", "splice points") + " to build"
+	}
+	fmt.Fprintf(w, "construction: new trench %s%s, added duct %s, %s where new pathway joins, %d along new construction%s, %d for added pull points (%s to build in all%s%s); %s used\n",
 		length(c.NewM), bored, length(c.AddedDuctM), Counted(s.JoinHandholes, "handhole", "handholes"), s.RunHandholes, taps, e.AddedPullPoints,
-		Counted(s.HandholesToBuild, "handhole", "handholes"), turns, Counted(len(c.Entrances), "building entrance", "building entrances"))
+		Counted(s.HandholesToBuild, "handhole", "handholes"), turns, splices, Counted(len(c.Entrances), "building entrance", "building entrances"))
 	if len(e.Pulls) > 0 {
 		hi := e.Pulls[0]
 		for _, p := range e.Pulls {
