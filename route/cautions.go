@@ -20,6 +20,20 @@ type Caution struct {
 	Where  string // what in this plan calls for it, by id: "new trench along spans P-5, P-6"
 	Text   string // what to do
 	Source string // where it comes from, rated as the catalog rates its values
+	// places are the handholes on a span or lateral Where names, each by its place in
+	// metres (estimate.MetresText), which WhereIn writes in another output's units.
+	places []estimate.PullPoint
+}
+
+// WhereIn is Where with the distances of the handholes it names written by length (an
+// output's units), as the structures table writes their places (estimate.PullPoint.Text).
+// With estimate.MetresText it is Where.
+func (c Caution) WhereIn(length func(m float64) string) string {
+	w := c.Where
+	for _, p := range c.places {
+		w = strings.ReplaceAll(w, p.Text(estimate.MetresText), p.Text(length))
+	}
+	return w
 }
 
 // The cautions' IDs, in the order they are listed.
@@ -168,8 +182,12 @@ func cautionsOf(r *Result) []Caution {
 	}
 	pits := pitsOf(r)
 	var pitNames, onBanks, bankPathways []string
+	var places []estimate.PullPoint // of the pits on spans and laterals, for Caution.WhereIn
 	for _, p := range pits {
 		pitNames = append(pitNames, p.name)
+		if p.at != nil {
+			places = append(places, *p.at)
+		}
 		var emi []string
 		for _, id := range p.spans {
 			sp, ok := net.Span(id)
@@ -234,7 +252,7 @@ func cautionsOf(r *Result) []Caution {
 		pitsDug = append(pitsDug, pitsCount+": "+namedList(pitNames, shownPits))
 	}
 	if len(pitsDug) > 0 {
-		add(Caution{ID: CautionTrench, Title: "Trench and excavation cave-in",
+		add(Caution{ID: CautionTrench, places: places, Title: "Trench and excavation cave-in",
 			Where: strings.Join(pitsDug, "; "),
 			Text:  "Every excavation a worker enters is covered, not only a trench: the pit dug for each handhole and the entry and exit pits of each bore too. One 1.5 m (5 ft) deep or more needs a protective system (sloping, benching, shoring or a trench shield) unless it is entirely in stable rock, and a shallower one where a competent person sees signs of a cave-in; the competent person inspects it daily and after rain; keep spoil and equipment at least 0.6 m (2 ft) from the edge; a ladder or ramp within 7.6 m (25 ft) of travel in a trench 1.2 m (4 ft) deep or more.",
 			// 1926.652(a)(1) and 1926.651(j)(2), (k) seen in a secondary republication of the
@@ -249,13 +267,13 @@ func cautionsOf(r *Result) []Caution {
 			Source: "common practice, no published source (one-call laws require the locates; from memory)"})
 	}
 	if len(powerWork.ids) > 0 {
-		add(Caution{ID: CautionPower, Title: "Power conductors near new work",
+		add(Caution{ID: CautionPower, places: places, Title: "Power conductors near new work",
 			Where:  "new work on or beside spans the campus marks emi high: " + idList(powerWork.ids),
 			Text:   "The campus marks these spans as near a source of high electromagnetic interference, on a campus most often energized power cable: before digging, boring or setting a handhole there, have the owner locate the power conductors, expose them by hand or vacuum excavation where the work comes near, treat every conductor found as energized until its owner has de-energized and grounded it, and keep the crew and its tools out of reach of it (an electrical hazard: qualified workers only near exposed power conductors). Ground the bore rig and use strike alert.",
 			Source: "in the US, 29 CFR 1926.416(a)(1) and (3) and 1926.651(b) (from memory); common practice, no published source"})
 	}
 	if len(onBanks) > 0 {
-		add(Caution{ID: CautionDuctBank, Title: "Handholes built on existing duct banks",
+		add(Caution{ID: CautionDuctBank, places: places, Title: "Handholes built on existing duct banks",
 			Where:  input.Counted(len(onBanks), "handhole", "handholes") + " to set into existing ducts or direct-buried cable: " + namedList(onBanks, shownPits) + " (" + pathways(bankPathways) + ")",
 			Text:   "Each is built around ducts or cable already in service, which may carry live circuits the campus data does not show: ask the owner which ducts are occupied, expose the bank by hand, break out only the duct walls the new handhole needs (a split or built-around handhole), support and protect the cables in service while it is built, and coordinate any outage with their owners. The bill prices these at the price book's handhole price, as a handhole in open ground.",
 			Source: "common practice, no published source"})
@@ -310,6 +328,7 @@ func cautionsOf(r *Result) []Caution {
 type pit struct {
 	name  string
 	spans []string
+	at    *estimate.PullPoint // a handhole on a span or lateral, whose name gives its distance; nil at a junction
 }
 
 // pitsOf lists every handhole the plan sets, each once, in the structures table's order and
@@ -344,25 +363,28 @@ func pitsOf(r *Result) []pit {
 	if e == nil {
 		return out
 	}
+	along := func(p estimate.PullPoint, spans ...string) pit {
+		return pit{name: p.Text(estimate.MetresText), spans: spans, at: &p}
+	}
 	for _, h := range e.Construction.RunHandholes {
 		sp, _ := net.Span(h.Span)
-		add(pit{name: estimate.PullPoint{Span: h.Span, AtM: h.AtM, End: net.EndName(sp.From)}.Text(estimate.MetresText), spans: []string{h.Span}})
+		add(along(estimate.PullPoint{Span: h.Span, AtM: h.AtM, End: net.EndName(sp.From)}, h.Span))
 	}
 	for _, p := range e.PullPointsAdded {
 		switch _, isSpan := net.Span(p.Span); {
 		case p.Span == "" && p.ID != "":
 			add(atJunction(p.ID))
 		case isSpan:
-			add(pit{name: p.Text(estimate.MetresText), spans: []string{p.Span}})
+			add(along(p, p.Span))
 		default: // on a counted lateral
-			add(pit{name: p.Text(estimate.MetresText)})
+			add(along(p))
 		}
 	}
 	for _, sp := range e.SplicePoints {
 		if !sp.At.BuildsHandhole(net) {
 			continue
 		}
-		add(pit{name: estimate.PullPoint{Span: sp.At.Span, AtM: sp.At.AtM, End: sp.At.End}.Text(estimate.MetresText), spans: []string{sp.At.Span}})
+		add(along(estimate.PullPoint{Span: sp.At.Span, AtM: sp.At.AtM, End: sp.At.End}, sp.At.Span))
 	}
 	return out
 }

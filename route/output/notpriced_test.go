@@ -629,6 +629,22 @@ func TestCautionsNameEveryPit(t *testing.T) {
 				t.Errorf("reels of %g m: the cave-in caution does not name %q: %q", reelM, p, where[route.CautionTrench])
 			}
 		}
+		// In feet, as the structures table of an imperial run writes each place (1 ft =
+		// 0.3048 m exactly), not the metric text converted (a 0.1 ft difference).
+		feet := func(m float64) string { return LengthText(WriteOptions{Units: UnitsImperial}, m) }
+		for _, c := range r.Cautions {
+			if c.ID != route.CautionTrench {
+				continue
+			}
+			for _, st := range rows {
+				if st.Status == StructureToBuild && st.Type == geo.StructureHandhole && !strings.Contains(c.WhereIn(feet), st.Place(feet)) {
+					t.Errorf("reels of %g m: in feet, the cave-in caution %q does not name %q", reelM, c.WhereIn(feet), st.Place(feet))
+				}
+			}
+			if c.WhereIn(estimate.MetresText) != c.Where {
+				t.Errorf("reels of %g m: in metres the cave-in caution says %q, not its Where %q", reelM, c.WhereIn(estimate.MetresText), c.Where)
+			}
+		}
 		// The terminal says the splice points to build beside its handholes, which leave them
 		// out (the bill's handhole lines), so that its figures add up to the cautions'.
 		var term bytes.Buffer

@@ -395,7 +395,13 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 	}
 	s := output.Summarize(r)
 	v := &planView{S: s, Unit: opt.units().Length, Currency: r.Currency, Hub: r.Hub,
-		Cautions: r.Cautions, CautionsPreamble: route.CautionsPreamble, CautionsClosing: route.CautionsClosing}
+		CautionsPreamble: route.CautionsPreamble, CautionsClosing: route.CautionsClosing}
+	// What calls for each caution in the run's units (a handhole's place names its distance);
+	// its text as written, which gives both units.
+	for _, c := range r.Cautions {
+		c.Where = c.WhereIn(opt.lengthU)
+		v.Cautions = append(v.Cautions, c)
+	}
 	phys := map[string]bool{}
 	for _, l := range r.Legs {
 		if l.Feasible && l.Application != "" {
