@@ -181,7 +181,8 @@ func cautionsOf(r *Result) []Caution {
 		}
 	}
 	pits := pitsOf(r)
-	var pitNames, onBanks, bankPathways []string
+	var pitNames, onBanks []string
+	var bankPathways seenList
 	var places []estimate.PullPoint // of the pits on spans and laterals, for Caution.WhereIn
 	for _, p := range pits {
 		pitNames = append(pitNames, p.name)
@@ -201,9 +202,7 @@ func cautionsOf(r *Result) []Caution {
 				if len(onBanks) == 0 || onBanks[len(onBanks)-1] != p.name {
 					onBanks = append(onBanks, p.name)
 				}
-				if !slices.Contains(bankPathways, sp.PathwayID) {
-					bankPathways = append(bankPathways, sp.PathwayID)
-				}
+				bankPathways.add(sp.PathwayID)
 			}
 		}
 		if len(emi) > 0 {
@@ -274,7 +273,7 @@ func cautionsOf(r *Result) []Caution {
 	}
 	if len(onBanks) > 0 {
 		add(Caution{ID: CautionDuctBank, places: places, Title: "Handholes built on existing duct banks",
-			Where:  input.Counted(len(onBanks), "handhole", "handholes") + " to set into existing ducts or direct-buried cable: " + namedList(onBanks, shownPits) + " (" + pathways(bankPathways) + ")",
+			Where:  input.Counted(len(onBanks), "handhole", "handholes") + " to set into existing ducts or direct-buried cable: " + namedList(onBanks, shownPits) + " (" + pathways(bankPathways.ids) + ")",
 			Text:   "Each is built around ducts or cable already in service, which may carry live circuits the campus data does not show: ask the owner which ducts are occupied, expose the bank by hand, break out only the duct walls the new handhole needs (a split or built-around handhole), support and protect the cables in service while it is built, and coordinate any outage with their owners. The bill prices these at the price book's handhole price, as a handhole in open ground.",
 			Source: "common practice, no published source"})
 	}
