@@ -6,6 +6,8 @@ import (
 
 	"spanwright/geo"
 	"spanwright/geo/input"
+	"spanwright/route/estimate"
+	"spanwright/route/routing"
 )
 
 // Caution is one safety caution a planned scenario calls for: what the crew must do, what in
@@ -18,6 +20,20 @@ type Caution struct {
 	Where  string // what in this plan calls for it, by id: "new trench along spans P-5, P-6"
 	Text   string // what to do
 	Source string // where it comes from, rated as the catalog rates its values
+	// places are the handholes on a span or lateral Where names, each by its place in
+	// metres (estimate.MetresText), which WhereIn writes in another output's units.
+	places []estimate.PullPoint
+}
+
+// WhereIn is Where with the distances of the handholes it names written by length (an
+// output's units), as the structures table writes their places (estimate.PullPoint.Text).
+// With estimate.MetresText it is Where.
+func (c Caution) WhereIn(length func(m float64) string) string {
+	w := c.Where
+	for _, p := range c.places {
+		w = strings.ReplaceAll(w, p.Text(estimate.MetresText), p.Text(length))
+	}
+	return w
 }
 
 // The cautions' IDs, in the order they are listed.
@@ -25,6 +41,8 @@ const (
 	CautionLocates  = "locates"
 	CautionTrench   = "trench"
 	CautionBore     = "bore"
+	CautionPower    = "power"
+	CautionDuctBank = "duct-bank"
 	CautionBuried   = "buried"
 	CautionAerial   = "aerial"
 	CautionTunnel   = "tunnel"
@@ -43,9 +61,16 @@ const (
 // shownIDs is the most ids a caution's Where names before counting the rest.
 const shownIDs = 6
 
+// shownPits is the most handholes to set a caution's Where names before counting the rest:
+// more than shownIDs, for the crew reads each pit it digs off the list (tester 11's finding 1).
+const shownPits = 12
+
 // idList names ids in sorted order, at most shownIDs of them and a count of the rest.
-func idList(ids []string) string {
-	shown, more := input.Shown(slices.Sorted(slices.Values(ids)), shownIDs)
+func idList(ids []string) string { return namedList(ids, shownIDs) }
+
+// namedList names ids in sorted order, at most n of them and a count of the rest.
+func namedList(ids []string, n int) string {
+	shown, more := input.Shown(slices.Sorted(slices.Values(ids)), n)
 	return strings.Join(shown, ", ") + more
 }
 
@@ -81,7 +106,8 @@ func cautionsOf(r *Result) []Caution {
 	net := r.Site.Net
 	var aerial, tunnel, buried, holes seenList
 	aerialLegs, tunnelLegs, buriedLegs := 0, 0, 0
-	fibre, copperOut := 0, 0
+	fibre := 0
+	var copperLegs, protectedAt seenList
 	for i := range r.Legs {
 		l := &r.Legs[i]
 		if !l.Feasible {
@@ -119,16 +145,21 @@ func cautionsOf(r *Result) []Caution {
 			if m.Fibre() {
 				fibre++
 			} else if l.Outdoor {
-				copperOut++
+				copperLegs.add(l.Label())
+				for _, en := range []string{l.EntranceTo, l.EntranceFrom} {
+					if en != "" {
+						protectedAt.add(en)
+					}
+				}
 			}
 		}
 	}
 
 	// New civil work, by method: the bill's pieces (estimate.Construction.Pieces: opened
-	// spans, trenches or bores for ducts added beside full ones, counted laterals).
-	var trench, bore seenList
+	// spans, trenches or bores for ducts added beside full ones, counted laterals), and the
+	// spans of it the campus marks emi high (geo.EMIHigh).
+	var trench, bore, powerWork seenList
 	laterals := [2]int{} // trenched, bored
-	handholes := 0
 	if e := r.Estimate; e != nil {
 		for _, w := range e.Construction.Pieces {
 			isBore := w.Method == geo.MethodBore
@@ -140,8 +171,47 @@ func cautionsOf(r *Result) []Caution {
 			default:
 				trench.add(w.Span)
 			}
+			if sp, ok := net.Span(w.Span); ok && sp.EMI == geo.EMIHigh {
+				if isBore {
+					powerWork.add("directional bore along span " + w.Span)
+				} else {
+					powerWork.add("trench along span " + w.Span)
+				}
+			}
 		}
-		handholes = len(r.Handholes) + len(e.Construction.RunHandholes) + e.AddedPullPoints
+	}
+	pits := pitsOf(r)
+	var pitNames, onBanks []string
+	var bankPathways seenList
+	var places []estimate.PullPoint // of the pits on spans and laterals, for Caution.WhereIn
+	for _, p := range pits {
+		pitNames = append(pitNames, p.name)
+		if p.at != nil {
+			places = append(places, *p.at)
+		}
+		var emi []string
+		for _, id := range p.spans {
+			sp, ok := net.Span(id)
+			if !ok {
+				continue
+			}
+			if sp.EMI == geo.EMIHigh {
+				emi = append(emi, id)
+			}
+			if sp.Status != geo.StatusProposed && (sp.Type == geo.TypeDuct || sp.Type == geo.TypeBuried) {
+				if len(onBanks) == 0 || onBanks[len(onBanks)-1] != p.name {
+					onBanks = append(onBanks, p.name)
+				}
+				bankPathways.add(sp.PathwayID)
+			}
+		}
+		if len(emi) > 0 {
+			powerWork.add("handhole " + p.name + " at " + strings.TrimPrefix(spansText(emi, 0), ": "))
+		}
+	}
+	pitsCount := ""
+	if len(pits) > 0 {
+		pitsCount = input.Counted(len(pits), "handhole to set", "handholes to set")
 	}
 
 	var out []Caution
@@ -153,8 +223,8 @@ func cautionsOf(r *Result) []Caution {
 	if len(bore.ids) > 0 || laterals[1] > 0 {
 		dig = append(dig, "directional bore"+spansText(bore.ids, laterals[1]))
 	}
-	if handholes > 0 {
-		dig = append(dig, input.Counted(handholes, "handhole to set", "handholes to set"))
+	if pitsCount != "" {
+		dig = append(dig, pitsCount)
 	}
 	if len(buried.ids) > 0 {
 		dig = append(dig, "cable laid along existing direct-buried "+pathways(buried.ids))
@@ -167,19 +237,45 @@ func cautionsOf(r *Result) []Caution {
 			// states, each with its own tolerance zone.
 			Source: "state one-call (811) laws, each with its own tolerance zone (from memory); common practice"})
 	}
+	// Every excavation a worker enters, not only a trench: a handhole's pit and a bore's
+	// entry and exit pits too (29 CFR 1926.650(b)'s "excavation", from memory; tester 11's
+	// finding 1).
+	var pitsDug []string
 	if len(trench.ids) > 0 || laterals[0] > 0 {
-		add(Caution{ID: CautionTrench, Title: "Trench cave-in",
-			Where: "new trench" + spansText(trench.ids, laterals[0]),
-			Text:  "A trench 1.5 m (5 ft) deep or more needs a protective system (sloping, benching, shoring or a trench shield) unless it is entirely in stable rock, and a shallower one where a competent person sees signs of a cave-in; the competent person inspects it daily and after rain; keep spoil and equipment at least 0.6 m (2 ft) from the edge; a ladder or ramp within 7.6 m (25 ft) of travel in a trench 1.2 m (4 ft) deep or more.",
+		pitsDug = append(pitsDug, "new trench"+spansText(trench.ids, laterals[0]))
+	}
+	if len(bore.ids) > 0 || laterals[1] > 0 {
+		pitsDug = append(pitsDug, "entry and exit pits of the directional bore"+spansText(bore.ids, laterals[1]))
+	}
+	if pitsCount != "" {
+		pitsDug = append(pitsDug, pitsCount+": "+namedList(pitNames, shownPits))
+	}
+	if len(pitsDug) > 0 {
+		add(Caution{ID: CautionTrench, places: places, Title: "Trench and excavation cave-in",
+			Where: strings.Join(pitsDug, "; "),
+			Text:  "Every excavation a worker enters is covered, not only a trench: the pit dug for each handhole and the entry and exit pits of each bore too. One 1.5 m (5 ft) deep or more needs a protective system (sloping, benching, shoring or a trench shield) unless it is entirely in stable rock, and a shallower one where a competent person sees signs of a cave-in; the competent person inspects it daily and after rain; keep spoil and equipment at least 0.6 m (2 ft) from the edge; a ladder or ramp within 7.6 m (25 ft) of travel in a trench 1.2 m (4 ft) deep or more.",
 			// 1926.652(a)(1) and 1926.651(j)(2), (k) seen in a secondary republication of the
-			// text; 1926.651(c)(2) (egress) from memory, seen in a contractor's summary.
-			Source: "in the US, 29 CFR 1926 Subpart P: 1926.652(a)(1), 1926.651(j)(2) and (k) (seen in a secondary publication), 1926.651(c)(2) (from memory)"})
+			// text; 1926.651(c)(2) (egress) and 1926.650(b) (an excavation is any man-made
+			// cut, cavity, trench or depression formed by earth removal) from memory.
+			Source: "in the US, 29 CFR 1926 Subpart P: 1926.652(a)(1), 1926.651(j)(2) and (k) (seen in a secondary publication), 1926.650(b) and 1926.651(c)(2) (from memory)"})
 	}
 	if len(bore.ids) > 0 || laterals[1] > 0 {
 		add(Caution{ID: CautionBore, Title: "Directional bore",
 			Where:  "directional bore" + spansText(bore.ids, laterals[1]),
 			Text:   "A bore needs the same locates along its whole path, with every utility it crosses or runs beside exposed (potholed) to confirm its depth, and a bore plan from the contractor: entry and exit pits, depth profile, clearances to the utilities crossed and how the drill head is tracked. Ground the rig and use strike alert where a power line may be hit.",
 			Source: "common practice, no published source (one-call laws require the locates; from memory)"})
+	}
+	if len(powerWork.ids) > 0 {
+		add(Caution{ID: CautionPower, places: places, Title: "Power conductors near new work",
+			Where:  "new work on or beside spans the campus marks emi high: " + idList(powerWork.ids),
+			Text:   "The campus marks these spans as near a source of high electromagnetic interference, on a campus most often energized power cable: before digging, boring or setting a handhole there, have the owner locate the power conductors, expose them by hand or vacuum excavation where the work comes near, treat every conductor found as energized until its owner has de-energized and grounded it, and keep the crew and its tools out of reach of it (an electrical hazard: qualified workers only near exposed power conductors). Ground the bore rig and use strike alert.",
+			Source: "in the US, 29 CFR 1926.416(a)(1) and (3) and 1926.651(b) (from memory); common practice, no published source"})
+	}
+	if len(onBanks) > 0 {
+		add(Caution{ID: CautionDuctBank, places: places, Title: "Handholes built on existing duct banks",
+			Where:  input.Counted(len(onBanks), "handhole", "handholes") + " to set into existing ducts or direct-buried cable: " + namedList(onBanks, shownPits) + " (" + pathways(bankPathways.ids) + ")",
+			Text:   "Each is built around ducts or cable already in service, which may carry live circuits the campus data does not show: ask the owner which ducts are occupied, expose the bank by hand, break out only the duct walls the new handhole needs (a split or built-around handhole), support and protect the cables in service while it is built, and coordinate any outage with their owners. The bill prices these at the price book's handhole price, as a handhole in open ground.",
+			Source: "common practice, no published source"})
 	}
 	if len(buried.ids) > 0 {
 		add(Caution{ID: CautionBuried, Title: "Digging beside direct-buried cable",
@@ -213,11 +309,81 @@ func cautionsOf(r *Result) []Caution {
 			Text:   "Light at 850, 1310 and 1550 nm is invisible and can injure the eye: never look into a fibre end or connector; use an inspection scope with a filter or a power meter.",
 			Source: "IEC 60825-1, -2 (from memory)"})
 	}
-	if copperOut > 0 {
+	if len(copperLegs.ids) > 0 {
+		where := input.Counted(len(copperLegs.ids), "copper leg", "copper legs") + " leaving a building: " + idList(copperLegs.ids)
+		if len(protectedAt.ids) > 0 {
+			where += "; primary protectors at " + input.Counted(len(protectedAt.ids), "entrance", "entrances") + " " + idList(protectedAt.ids)
+		}
 		add(Caution{ID: CautionCopper, Title: "Lightning and ground potential rise on copper between buildings",
-			Where:  input.Counted(copperOut, "copper leg", "copper legs") + " leaving a building",
+			Where:  where,
 			Text:   "Copper entering a building from outside needs a listed primary protector at the entrance and bonding; all-dielectric fibre between buildings avoids both.",
 			Source: "NFPA 70 Articles 800 and 805, 800.90 (seen)"})
+	}
+	return out
+}
+
+// pit is a handhole the plan sets, dug where a crew works: its place as the structures table
+// names it, and the spans it is built on or at (none on a counted lateral).
+type pit struct {
+	name  string
+	spans []string
+	at    *estimate.PullPoint // a handhole on a span or lateral, whose name gives its distance; nil at a junction
+}
+
+// pitsOf lists every handhole the plan sets, each once, in the structures table's order and
+// with its names (output.StructuresOf): at junctions without a structure, whatever their
+// reasons (Result.Handholes), along new construction (estimate.Construction.RunHandholes),
+// for the pull points the pulling plan adds (estimate.Estimate.PullPointsAdded) and for the
+// splice points to build on a span (estimate.Estimate.SplicePoints) but on an aerial span's
+// strand, where the splice point is a closure and nothing is dug. A splice point off the
+// spans (in a riser, a slack loop or a lateral) has no place the structures table gives; the
+// bill and the warnings name it. The one list the excavation cautions read: the locates,
+// the cave-in protection, the power conductors near new work and the existing duct banks.
+func pitsOf(r *Result) []pit {
+	net := r.Site.Net
+	var out []pit
+	seen := map[string]bool{}
+	add := func(p pit) {
+		if !seen[p.name] {
+			seen[p.name] = true
+			out = append(out, p)
+		}
+	}
+	atJunction := func(id string) pit {
+		m, _ := net.MeetingAt(id)
+		return pit{name: id, spans: m.Spans}
+	}
+	hs := slices.Clone(r.Handholes)
+	slices.SortStableFunc(hs, func(a, b routing.Handhole) int { return strings.Compare(a.Junction, b.Junction) })
+	for _, h := range hs {
+		add(atJunction(h.Junction))
+	}
+	e := r.Estimate
+	if e == nil {
+		return out
+	}
+	along := func(p estimate.PullPoint, spans ...string) pit {
+		return pit{name: p.Text(estimate.MetresText), spans: spans, at: &p}
+	}
+	for _, h := range e.Construction.RunHandholes {
+		sp, _ := net.Span(h.Span)
+		add(along(estimate.PullPoint{Span: h.Span, AtM: h.AtM, End: net.EndName(sp.From)}, h.Span))
+	}
+	for _, p := range e.PullPointsAdded {
+		switch _, isSpan := net.Span(p.Span); {
+		case p.Span == "" && p.ID != "":
+			add(atJunction(p.ID))
+		case isSpan:
+			add(along(p, p.Span))
+		default: // on a counted lateral
+			add(along(p))
+		}
+	}
+	for _, sp := range e.SplicePoints {
+		if !sp.At.BuildsHandhole(net) {
+			continue
+		}
+		add(along(estimate.PullPoint{Span: sp.At.Span, AtM: sp.At.AtM, End: sp.At.End}, sp.At.Span))
 	}
 	return out
 }

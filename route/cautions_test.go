@@ -47,13 +47,30 @@ func cautionOf(t *testing.T, r *route.Result, id string) route.Caution {
 //     utility tunnels (29 CFR 1910.146, from memory), confined spaces at maintenance holes
 //     (29 CFR 1910.146, from memory).
 //   - Laser light on every plan with a fibre leg (IEC 60825-1, from memory).
-//   - Copper leaving a building: primary protector and bonding (NFPA 70 800.90, seen).
+//   - Copper leaving a building: primary protector and bonding (NFPA 70 800.90, seen), at
+//     the entrances named, where the protectors go.
+//   - Cave-in protection for every excavation a worker enters, a handhole's pit and a bore's
+//     pits too, with no new trench at all (29 CFR 1926.650(b), an excavation is any
+//     man-made cut, cavity, trench or depression formed by earth removal, from memory;
+//     Subpart P then applies to it: tester 11's finding 1).
+//   - A handhole cut into an existing duct bank is named (work around cables in service,
+//     the owner's outage coordination: common practice, no published source).
+//   - New work on or beside a span marked emi high is named as near power conductors
+//     (29 CFR 1926.416(a)(3): ascertain energized circuits before work, from memory;
+//     1926.651(b) utility locates, from memory).
 func TestCautionsFollowTheWork(t *testing.T) {
 	t.Parallel()
 	method := func(m string) *strings.Replacer {
 		return strings.NewReplacer(`"id":"P","type":"duct",`, `"id":"P","type":"duct","method":"`+m+`",`)
 	}
 	pull := testsite.PullCampus(100, 2)
+	// hairpin: street S from A east to B, duct L leaving junction J (200, 0) back to C, where
+	// A-C turns from S into L (TestNoSharpRun): a turn handhole on the existing ducts, nothing
+	// else dug; L marked emi level.
+	hairpin := func(level string) string {
+		return collection(testsite.Box("A", "mc", 0, 0), testsite.Box("B", "", 410, 0), testsite.Box("C", "", 0, 60),
+			duct("S", 0, 0, 200, 0, 400, 0), strings.Replace(duct("L", 200, 0, 0, 50), `"type":"duct"`, `"type":"duct","emi":"`+level+`"`, 1))
+	}
 	copperOnly := copperOnlyRules(t)
 	skipC := []plan.LinkSpec{{From: "A", To: "C", Skip: true}} // B alone, over the existing duct D
 	for _, tc := range []struct {
@@ -66,11 +83,18 @@ func TestCautionsFollowTheWork(t *testing.T) {
 			p.Links = skipC
 		}, want: []string{route.CautionLaser}},
 		{name: "trench", campus: method("trench").Replace(pull),
-			want:  []string{route.CautionLocates, route.CautionTrench, route.CautionLaser},
-			where: map[string]string{route.CautionTrench: "new trench: span P"}},
+			want: []string{route.CautionLocates, route.CautionTrench, route.CautionDuctBank, route.CautionLaser},
+			where: map[string]string{route.CautionTrench: "new trench: span P; 1 handhole to set: J0002",
+				route.CautionLocates: "new trench: span P; 1 handhole to set"}},
 		{name: "bore", campus: method("bore").Replace(pull),
-			want:  []string{route.CautionLocates, route.CautionBore, route.CautionLaser},
-			where: map[string]string{route.CautionBore: "directional bore: span P"}},
+			want: []string{route.CautionLocates, route.CautionTrench, route.CautionBore, route.CautionDuctBank, route.CautionLaser},
+			where: map[string]string{route.CautionBore: "directional bore: span P",
+				route.CautionTrench: "entry and exit pits of the directional bore: span P; 1 handhole to set: J0002"}},
+		{name: "turn handhole only", campus: hairpin("none"), want: []string{route.CautionLocates, route.CautionTrench, route.CautionDuctBank, route.CautionLaser},
+			where: map[string]string{route.CautionLocates: "1 handhole to set", route.CautionTrench: "1 handhole to set: J0003",
+				route.CautionDuctBank: "1 handhole to set into existing ducts or direct-buried cable: J0003 (pathways L, S)"}},
+		{name: "turn handhole beside power", campus: hairpin("high"), want: []string{route.CautionLocates, route.CautionTrench, route.CautionPower, route.CautionDuctBank, route.CautionLaser},
+			where: map[string]string{route.CautionPower: "new work on or beside spans the campus marks emi high: handhole J0003 at span L"}},
 		{name: "pole line", campus: strings.Replace(pull, `"id":"D","type":"duct"`, `"id":"D","type":"aerial"`, 1), edit: func(p *plan.Plan) {
 			p.Links = skipC
 		}, want: []string{route.CautionAerial, route.CautionLaser},
@@ -88,7 +112,7 @@ func TestCautionsFollowTheWork(t *testing.T) {
 			p.Design.AllowOutdoorCopper = true
 			p.Rules = copperOnly
 		}, want: []string{route.CautionCopper},
-			where: map[string]string{route.CautionCopper: "1 copper leg leaving a building"}},
+			where: map[string]string{route.CautionCopper: "1 copper leg leaving a building: A-B/primary; primary protectors at 2 entrances A:1, B:1"}},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			t.Parallel()
@@ -157,7 +181,7 @@ func copperCampus() string {
 func TestDemoCautions(t *testing.T) {
 	t.Parallel()
 	r := testplan.DemoResult(t)
-	want := []string{route.CautionLocates, route.CautionTrench, route.CautionBore, route.CautionBuried,
+	want := []string{route.CautionLocates, route.CautionTrench, route.CautionBore, route.CautionDuctBank, route.CautionBuried,
 		route.CautionAerial, route.CautionTunnel, route.CautionConfined, route.CautionLaser}
 	if got := cautionIDs(r); !slices.Equal(got, want) {
 		t.Fatalf("demo cautions %v, want %v", got, want)

@@ -2,6 +2,7 @@ package route_test
 
 import (
 	"fmt"
+	"slices"
 	"strings"
 	"testing"
 
@@ -12,6 +13,7 @@ import (
 	"spanwright/route/internal/testplan"
 	"spanwright/route/internal/testsite"
 	"spanwright/route/items"
+	"spanwright/route/output"
 	"spanwright/route/plan"
 )
 
@@ -69,6 +71,24 @@ func TestLateralFromPoleLine(t *testing.T) {
 	}
 	if got, want := lines[items.TapHandholes(1).Item], "1 not priced false"; got != want {
 		t.Errorf("bill: %q %q; want %q", items.TapHandholes(1).Item, got, want)
+	}
+	// The riser is placed (tester 11's finding 12): the bill's line is from the handhole at
+	// the pole's foot, and the structures table names the riser on that handhole's row.
+	if line, _ := testplan.BOMLine(r.Estimate.BOM, items.PoleRiserItem); !slices.Equal(line.From, []string{"junction " + e.Junction + " for the lateral of entrance " + e.ID + " of building C"}) {
+		t.Errorf("riser line from %q, want the junction %s and C's entrance %s", line.From, e.Junction, e.ID)
+	}
+	sts, err := output.StructuresOf(r)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, st := range sts {
+		if st.ID == e.Junction {
+			if want := "pole riser (lateral of " + e.ID + ")"; !strings.Contains(st.Purpose, want) {
+				t.Errorf("structures table: %s's purpose %q lacks %q", st.ID, st.Purpose, want)
+			}
+		} else if strings.Contains(st.Purpose, "pole riser") {
+			t.Errorf("structures table: %s's purpose %q names a pole riser", st.ID, st.Purpose)
+		}
 	}
 
 	// Priced (an invented 650.00 each), the riser is in the optimizer's objective and the

@@ -42,6 +42,10 @@ type Estimate struct {
 	// AddedPullPoints is the number of distinct intermediate pull points the pulls need, each
 	// billed as a handhole; legs that need one at the same place share it.
 	AddedPullPoints int
+	// PullPointsAdded are those pull points, each once (as AddedPullPoints counts them), in
+	// the order the legs' pulls first add them: where each is, for the safety cautions that
+	// name every handhole the plan digs.
+	PullPointsAdded []PullPoint
 	Fill            []DuctFill // each duct holding cable on a span of limited capacity, by span and duct
 	// SplicePoints is every splice point to build (a mid-span join no structure within its
 	// reel's reach takes, routing.SplicePoint.NoStructure), one a place, in the order the legs
@@ -227,6 +231,10 @@ type Construction struct {
 	// spans and ducts added beside full ones): each takes an entry (items.HoleWalls,
 	// items.HoleEntries).
 	HoleWalls int
+	// HoleEntries are those entries, one per wall, in the order counted: the maintenance
+	// hole (junction ID) and the span whose new duct enters it (items.HolesEntered), which
+	// the bill's line is from and the structures table names.
+	HoleEntries []HoleEntry
 	// NewJunctions, TapJunctions and TurnJunctions are the handholes the plan adds at
 	// junctions with no structure (routing.Routed.Handholes), each junction in one of them
 	// only, under the first of its reasons (routing.Handhole.Purpose), by junction ID in the
@@ -334,6 +342,20 @@ func fromSpan(id string) string     { return "span " + id }
 func fromEntrance(e routing.EntranceUse) string {
 	return "entrance " + e.Entrance + " of building " + e.Building
 }
+
+// fromHoleEntry names a maintenance hole entry by the hole and the span whose new duct
+// enters it (tester 11's finding 12: the bill named the span alone).
+func fromHoleEntry(hole, span string) string { return "maintenance hole " + hole + " for span " + span }
+
+// fromPoleRiser names a pole riser by the handhole at the pole's foot (the lateral's tap)
+// and the entrance whose lateral comes down it.
+func fromPoleRiser(e routing.EntranceUse) string {
+	if e.Tap == "" {
+		return fromEntrance(e)
+	}
+	return "junction " + e.Tap + " for the lateral of " + fromEntrance(e)
+}
+
 func fromJunctions(ids []string) []string {
 	out := make([]string, len(ids))
 	for i, id := range ids {
@@ -370,7 +392,10 @@ func Build(ctx context.Context, in Input) (*Estimate, error) {
 	for _, p := range pulls {
 		e.Pulls = append(e.Pulls, p.sections...)
 		e.Warnings = append(e.Warnings, p.warnings...)
-		for _, k := range p.added {
+		for n, k := range p.added {
+			if !added[k] {
+				e.PullPointsAdded = append(e.PullPointsAdded, p.addedAt[n])
+			}
 			added[k] = true
 		}
 	}
@@ -405,17 +430,18 @@ func Build(ctx context.Context, in Input) (*Estimate, error) {
 type legPulls struct {
 	sections []PullSection
 	warnings []string
-	added    []string // the intermediate pull points it adds, keyed by place
+	added    []string    // the intermediate pull points it adds, keyed by place
+	addedAt  []PullPoint // where each of added is, parallel to it
 }
 
 // ends records the pull points section sec adds at its ends (keyed fromKey and toKey) and
 // the end ps is fed from, the one with the lower tension, with the other way's tension.
 func (e *legPulls) ends(ps *PullSection, sec *install.Section, fromKey, toKey string) {
 	if sec.StartAdded {
-		e.added = append(e.added, fromKey)
+		e.added, e.addedAt = append(e.added, fromKey), append(e.addedAt, ps.From)
 	}
 	if sec.EndAdded {
-		e.added = append(e.added, toKey)
+		e.added, e.addedAt = append(e.added, toKey), append(e.addedAt, ps.To)
 	}
 	ps.FeedAt, ps.OtherN = ps.From, sec.Reverse.MaxTensionN
 	if sec.Best == install.Reverse {
@@ -1324,11 +1350,25 @@ func (r *run) construction() {
 // holeWalls counts the walls of existing maintenance holes the new duct or buried cable along span sp enters
 // (items.HoleWalls), and the span among those the bill line is from.
 func (c *Construction) holeWalls(s *site.Site, sp *geo.Span, from map[string][]string) {
-	if n := items.HoleWalls(s, sp); n > 0 {
-		c.HoleWalls += n
-		from[keyHoleWall] = append(from[keyHoleWall], fromSpan(sp.ID))
+	for _, hole := range items.HolesEntered(s, sp) {
+		c.HoleWalls++
+		c.HoleEntries = append(c.HoleEntries, HoleEntry{Hole: hole, Span: sp.ID})
+		from[keyHoleWall] = append(from[keyHoleWall], fromHoleEntry(hole, sp.ID))
 	}
 }
+
+// HoleEntry is one wall of an existing maintenance hole that new duct (or a new trench's
+// buried cable) enters: the hole's junction ID and the span of the new work.
+type HoleEntry struct{ Hole, Span string }
+
+// HoleEntryPurpose is the structures table's purpose of a maintenance hole that new duct
+// along span enters (Construction.HoleEntries): "new duct entry (D-12)".
+func HoleEntryPurpose(span string) string { return "new duct entry (" + span + ")" }
+
+// PoleRiserPurpose is the structures table's purpose of the handhole at a pole's foot that
+// a counted lateral's riser comes down into (routing.EntranceUse.PoleRiser, its Tap):
+// "pole riser (lateral of FARM:1)".
+func PoleRiserPurpose(entrance string) string { return "pole riser (lateral of " + entrance + ")" }
 
 // assumedWarning is the one line that tells an estimator how much new trench was priced on
 // the design's assumed surface; "" when none was. The report lists each span and lateral.
@@ -1517,13 +1557,24 @@ func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg) []
 	// passes or ends at (the campus's structures, and the handholes the plan builds on its
 	// way: routing.CableTakeoff.Structures), an entry at each maintenance hole or handhole among them (the
 	// structures passed, the count its slack loops have), both ends prepared.
-	var pull float64
+	// A splice point to build (a join no structure takes) is a pull point too, where the next
+	// reel's pull starts, and one built as a handhole is entered to splice (tester 11's
+	// finding 5: README's "every handhole the plan builds that it passes").
+	var pull, entered float64
 	for _, j := range s.JunctionsOf(l.Steps) {
 		if items.PullPoint(s, j) {
 			pull++
 		}
 	}
-	times(n, items.AtJunctions(p, 1+pull+float64(t.AddedStructures), float64(t.Structures))...)
+	for _, sp := range t.Splices {
+		if sp.NoStructure {
+			pull++
+		}
+		if sp.BuildsHandhole(s.Net) {
+			entered++
+		}
+	}
+	times(n, items.AtJunctions(p, 1+pull+float64(t.AddedStructures), float64(t.Structures)+entered)...)
 	// Every cable end is prepared: both ends of each cable, and those a transition or a
 	// mid-span join adds (CableTakeoff.CableEnds); every transition enclosure and splice
 	// closure is installed. Common practice, no published source: a crew task per cable end
@@ -1648,7 +1699,7 @@ func (r *run) quantities() {
 	var risers []string
 	for _, en := range con.Entrances {
 		if en.PoleRiser && en.LateralM > 0 {
-			risers = append(risers, fromEntrance(en))
+			risers = append(risers, fromPoleRiser(en))
 		}
 	}
 	for _, q := range items.PoleRisers(len(risers)) {

@@ -1277,6 +1277,32 @@ func TestHoleEntries(t *testing.T) {
 	if got := output.Summarize(r).NotPriced; !slices.Contains(got, "maintenance_hole_entry_each") {
 		t.Errorf("without a price: summary not_priced %q", got)
 	}
+	// Each entry is placed (tester 11's finding 12): the bill's line is from the hole and the
+	// span, and the structures table names the entry on MH-1's row.
+	sts, err := output.StructuresOf(r)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var purpose string
+	for _, st := range sts {
+		if st.ID == "MH-1" {
+			purpose = st.Purpose
+		}
+	}
+	if len(r.Estimate.Construction.HoleEntries) != walls {
+		t.Errorf("hole entries %+v, want %d", r.Estimate.Construction.HoleEntries, walls)
+	}
+	for _, h := range r.Estimate.Construction.HoleEntries {
+		if h.Hole != "MH-1" {
+			t.Errorf("hole entry %+v, want MH-1", h)
+		}
+		if from := "maintenance hole MH-1 for span " + h.Span; !slices.Contains(line.From, from) {
+			t.Errorf("bill line from %q, want %q among them", line.From, from)
+		}
+		if want := "new duct entry (" + h.Span + ")"; !strings.Contains(purpose, want) {
+			t.Errorf("structures table: MH-1's purpose %q lacks %q", purpose, want)
+		}
+	}
 
 	r2 := solve(mh, nil)
 	line, ok = testplan.BOMLine(r2.Estimate.BOM, items.HoleEntryItem)

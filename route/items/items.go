@@ -465,14 +465,19 @@ func AddedDuctEntrances(p *media.PriceBook, n int) []media.Quantity {
 // there already), for a proposed span opened (its ducts) or a trench beside a full existing
 // one (the ducts it adds). A handhole or pull box is taken to have knockouts or an open bottom
 // for a new duct (common practice, no published source), so only a maintenance hole counts.
-func HoleWalls(s *site.Site, sp *geo.Span) int {
-	n := 0
+func HoleWalls(s *site.Site, sp *geo.Span) int { return len(HolesEntered(s, sp)) }
+
+// HolesEntered is the maintenance holes whose walls new duct along span sp enters (HoleWalls
+// counts them), by junction ID, from end first: where the bill's entries are made, which the
+// structures table names.
+func HolesEntered(s *site.Site, sp *geo.Span) []string {
+	var out []string
 	for _, j := range []string{sp.From, sp.To} {
 		if jn, ok := s.Net.Junction(j); ok && jn.Kind == geo.JunctionStructure && jn.StructureType == geo.StructureMaintenanceHole {
-			n++
+			out = append(out, j)
 		}
 	}
-	return n
+	return out
 }
 
 // HoleEntryItem is the bill item of new duct, or cable buried in a new trench, entering an

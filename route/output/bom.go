@@ -524,10 +524,11 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 		}
 	}
 	// Safety: the plan's cautions (route.Result.Cautions), between the words said before and
-	// after them, as the report lists them.
+	// after them, as the report lists them; what calls for each in the run's units (a
+	// handhole's place names its distance), its text as written (it gives both units).
 	safety.Append(workbook.Text("planning aid"), workbook.Blank(), workbook.Text(route.CautionsPreamble))
 	for _, c := range r.Cautions {
-		safety.Append(workbook.Text(c.Title), workbook.Text(c.Where), workbook.Text(c.Text), workbook.Text(c.Source))
+		safety.Append(workbook.Text(c.Title), workbook.Text(c.WhereIn(func(m float64) string { return LengthText(opt, m) })), workbook.Text(c.Text), workbook.Text(c.Source))
 	}
 	safety.Append(workbook.Text("codes"), workbook.Blank(), workbook.Text(route.CautionsClosing))
 	return wb.WriteToContext(ctx, out)

@@ -120,7 +120,7 @@ func gpkgLayers() []gpkgout.Layer {
 				c("span", tx, "for a handhole on a span: the span id (a lateral's: lateral of and its entrance)"),
 				c("at_m", re, "its distance from the span's from end (a lateral's building end), metres"),
 				c("status", tx, "existing or to build"), c("type", tx, "maintenance-hole, handhole or pull-box; to build: handhole, or splice closure (a splice point on an aerial span's strand)"),
-				c("purpose", tx, "to build: join, tap, turn, run, pull or splice (as added_structures); existing: slack loop, pull point (both joined by a comma) or passed; then splice closure where a leg's mid-span join is placed (joined_text)"),
+				c("purpose", tx, "to build: join, tap, turn, run, pull or splice (as added_structures); existing: slack loop, pull point (both joined by a comma) or passed; then new duct entry (SPAN) where new duct enters a maintenance hole and pole riser (lateral of ENTRANCE) where a lateral's riser comes down a pole into the handhole; then splice closure where a leg's mid-span join is placed (joined_text)"),
 				c("legs_text", tx, "legs through it, link/leg, joined by |"),
 				c("joined_text", tx, "legs with a mid-span join there (a splice closure, the next reel starting there), link/leg, joined by |; empty where none is"),
 				c("coiled_m", re, "cable coiled there over every cable, metres: a slack loop per cable of each leg through it that leaves one, and the splicing slack at both ends of each cable joined there"),

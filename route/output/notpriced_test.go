@@ -523,3 +523,151 @@ func TestPullsEndAtSplicePoints(t *testing.T) {
 		t.Fatal("no splice point to build on a duct span: nothing to test")
 	}
 }
+
+// TestCrewEntriesFollowTheStructuresTable plans the demo with reels of 300 m, so that joins
+// fall where no structure is (one on S-LDG, a handhole; three on the pole line, closures) (splice points to build), and holds the bill's crew entries
+// to the structures table (tester 11's finding 5: the splice point the plan builds had no entry):
+// each cable of each leg is entered once into every maintenance hole and handhole row that
+// lists the leg, the splice points to build that are handholes among them, but a pull box
+// (no slack loop stored, no entry) and the pulling plan's added pull points, which the README
+// leaves to the pulls. And every splice point to build starts a pull of its own (the next
+// reel), so the set-ups grow by one per cable joined there over the demo's reels of 4,000 m.
+// README "Crews": a set-up per pull between pull points, an entry per cable per maintenance
+// hole or handhole passed (common practice, no published source).
+func TestCrewEntriesFollowTheStructuresTable(t *testing.T) {
+	t.Parallel()
+	r := reelDemoOf(t, 300)
+	rows, err := StructuresOf(r)
+	if err != nil {
+		t.Fatal(err)
+	}
+	cables := map[string]int{}
+	for _, l := range r.Legs {
+		if l.Feasible {
+			cables[l.Label()] = len(l.Cable.Cables)
+		}
+	}
+	want, handholeSplices := 0, 0
+	for _, st := range rows {
+		if st.Type == geo.StructurePullBox || st.Type == TypeSpliceClosure || st.Purpose == PurposePull {
+			continue
+		}
+		if st.Purpose == PurposeSplice {
+			handholeSplices++
+		}
+		for _, leg := range st.Legs {
+			want += cables[leg]
+		}
+	}
+	if handholeSplices == 0 {
+		t.Fatal("no splice point to build as a handhole: nothing to test")
+	}
+	entries, ok := testplan.BOMLine(r.Estimate.BOM, "crew entry into a structure, per cable")
+	if !ok || entries.Quantity != float64(want) {
+		t.Errorf("bill's crew entries %v (found %v), the structures table's %d", entries.Quantity, ok, want)
+	}
+
+	// The set-ups: the same plan's legs with their splice points to build taken out add one
+	// set-up per cable per such join, and no other line of crew labour moves.
+	extra := 0
+	for _, l := range r.Legs {
+		for _, sp := range l.Cable.Splices {
+			if l.Feasible && sp.NoStructure {
+				extra += len(l.Cable.Cables)
+			}
+		}
+	}
+	setups, _ := testplan.BOMLine(r.Estimate.BOM, "crew set-up, per pull")
+	pulls := 0
+	for _, l := range r.Legs {
+		if !l.Feasible {
+			continue
+		}
+		points := 1 // the pulls of a cable are its pull points passed plus one
+		for _, j := range r.Site.JunctionsOf(l.Steps) {
+			if r.Site.IsStructure(j) {
+				points++
+			}
+		}
+		pulls += len(l.Cable.Cables) * (points + l.Cable.AddedStructures)
+	}
+	if setups.Quantity != float64(pulls+extra) {
+		t.Errorf("bill's crew set-ups %v, want %d: %d from the structures and handholes passed, %d from the splice points to build", setups.Quantity, pulls+extra, pulls, extra)
+	}
+}
+
+// TestCautionsNameEveryPit holds the excavation cautions to the structures table (tester 11's
+// finding 1): every handhole the table lists to build is a pit a crew digs and enters, which
+// the cave-in caution names and the locates count (29 CFR 1926.650(b): an excavation is any
+// man-made cut, cavity, trench or depression formed by earth removal, from memory; one-call
+// laws, from memory); a splice closure on an aerial strand digs nothing. The demo with reels
+// of 300 m builds a splice point in a handhole on S-LDG and three closures on the pole line.
+func TestCautionsNameEveryPit(t *testing.T) {
+	t.Parallel()
+	for _, reelM := range []float64{300, 4000} {
+		r := reelDemoOf(t, reelM)
+		rows, err := StructuresOf(r)
+		if err != nil {
+			t.Fatal(err)
+		}
+		var pits []string
+		for _, st := range rows {
+			if st.Status == StructureToBuild && st.Type == geo.StructureHandhole {
+				pits = append(pits, st.Place(estimate.MetresText))
+			}
+		}
+		where := map[string]string{}
+		for _, c := range r.Cautions {
+			where[c.ID] = c.Where
+		}
+		count := Counted(len(pits), "handhole to set", "handholes to set")
+		if !strings.Contains(where[route.CautionLocates], count) || !strings.Contains(where[route.CautionTrench], count+": ") {
+			t.Errorf("reels of %g m: %d handholes to build in the structures table; locates %q, cave-in %q", reelM, len(pits), where[route.CautionLocates], where[route.CautionTrench])
+		}
+		for _, p := range pits {
+			if !strings.Contains(where[route.CautionTrench], p) {
+				t.Errorf("reels of %g m: the cave-in caution does not name %q: %q", reelM, p, where[route.CautionTrench])
+			}
+		}
+		// In feet, as the structures table of an imperial run writes each place (1 ft =
+		// 0.3048 m exactly), not the metric text converted (a 0.1 ft difference).
+		feet := func(m float64) string { return LengthText(WriteOptions{Units: UnitsImperial}, m) }
+		for _, c := range r.Cautions {
+			if c.ID != route.CautionTrench {
+				continue
+			}
+			for _, st := range rows {
+				if st.Status == StructureToBuild && st.Type == geo.StructureHandhole && !strings.Contains(c.WhereIn(feet), st.Place(feet)) {
+					t.Errorf("reels of %g m: in feet, the cave-in caution %q does not name %q", reelM, c.WhereIn(feet), st.Place(feet))
+				}
+			}
+			if c.WhereIn(estimate.MetresText) != c.Where {
+				t.Errorf("reels of %g m: in metres the cave-in caution says %q, not its Where %q", reelM, c.WhereIn(estimate.MetresText), c.Where)
+			}
+		}
+		// The terminal says the splice points to build beside its handholes, which leave them
+		// out (the bill's handhole lines), so that its figures add up to the cautions'.
+		var term bytes.Buffer
+		if err := PrintSummary(&term, r, WriteOptions{}); err != nil {
+			t.Fatal(err)
+		}
+		s := Summarize(r)
+		want := fmt.Sprintf("(%s to build in all, with the %d where routes turn)", Counted(s.HandholesToBuild, "handhole", "handholes"), s.TurnHandholes)
+		if n := len(r.Estimate.SplicePoints); n > 0 {
+			want = fmt.Sprintf("(%s to build in all, with the %d where routes turn; and %s to build)", Counted(s.HandholesToBuild, "handhole", "handholes"), s.TurnHandholes,
+				Counted(n, "splice point", "splice points"))
+		}
+		if !strings.Contains(term.String(), want) {
+			t.Errorf("reels of %g m: terminal lacks %q:\n%s", reelM, want, term.String())
+		}
+		dug := 0
+		for _, sp := range r.Estimate.SplicePoints {
+			if sp.At.BuildsHandhole(r.Site.Net) {
+				dug++
+			}
+		}
+		if s.HandholesToBuild+dug != len(pits) {
+			t.Errorf("reels of %g m: %d handholes to build and %d splice points dug, the cautions' %d handholes to set", reelM, s.HandholesToBuild, dug, len(pits))
+		}
+	}
+}

@@ -589,6 +589,21 @@ func newWorkM(e *estimate.Estimate) float64 {
 // own, and the cable bought as cableCut in their unit, the pieces as written added up.
 type Totals struct{ RouteM, CableM, NewM float64 }
 
+// NewWorkParts is what the new trench figure (estimate.Construction.NewM) holds besides
+// trench, with lengths written by length: "155.0 m of it bored; 45.0 m of it building
+// laterals", "" when neither. The one text of it the terminal and the report print, so the
+// report's summary no longer calls bored metres new trench alone (tester 11's finding 13).
+func NewWorkParts(c estimate.Construction, length func(m float64) string) string {
+	var of []string
+	if c.BoreM > 0 {
+		of = append(of, length(c.BoreM)+" of it bored")
+	}
+	if c.LateralM > 0 {
+		of = append(of, length(c.LateralM)+" of it building laterals")
+	}
+	return strings.Join(of, "; ")
+}
+
 // TotalsOf adds up the totals of r.
 func TotalsOf(r *route.Result) Totals {
 	t := Totals{NewM: newWorkM(r.Estimate), CableM: cutOf(WriteOptions{}, r).all()}
@@ -836,16 +851,9 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 		return nil
 	}
 	c := e.Construction
-	var of []string
-	if c.BoreM > 0 {
-		of = append(of, length(c.BoreM)+" of it bored")
-	}
-	if c.LateralM > 0 {
-		of = append(of, length(c.LateralM)+" of it building laterals")
-	}
 	bored := ""
-	if len(of) > 0 {
-		bored = " (" + strings.Join(of, "; ") + ")"
+	if of := NewWorkParts(c, length); of != "" {
+		bored = " (" + of + ")"
 	}
 	taps := ""
 	if len(c.TapJunctions) > 0 {
@@ -855,9 +863,17 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 	if s.TurnHandholes > 0 {
 		turns = fmt.Sprintf(", with the %d where routes turn", s.TurnHandholes)
 	}
-	fmt.Fprintf(w, "construction: new trench %s%s, added duct %s, %s where new pathway joins, %d along new construction%s, %d for added pull points (%s to build in all%s); %s used\n",
+	// The splice points to build (estimate.Estimate.SplicePoints) are billed on a line of
+	// their own, not among the handholes, though most are dug as handholes (not a closure on an
+	// aerial strand): said beside them, so that a reader can add the terminal's handholes to
+	// the cautions' handholes to set (tester 11's finding 1).
+	splices := ""
+	if n := len(e.SplicePoints); n > 0 {
+		splices = "; and " + Counted(n, "splice point", "splice points") + " to build"
+	}
+	fmt.Fprintf(w, "construction: new trench %s%s, added duct %s, %s where new pathway joins, %d along new construction%s, %d for added pull points (%s to build in all%s%s); %s used\n",
 		length(c.NewM), bored, length(c.AddedDuctM), Counted(s.JoinHandholes, "handhole", "handholes"), s.RunHandholes, taps, e.AddedPullPoints,
-		Counted(s.HandholesToBuild, "handhole", "handholes"), turns, Counted(len(c.Entrances), "building entrance", "building entrances"))
+		Counted(s.HandholesToBuild, "handhole", "handholes"), turns, splices, Counted(len(c.Entrances), "building entrance", "building entrances"))
 	if len(e.Pulls) > 0 {
 		hi := e.Pulls[0]
 		for _, p := range e.Pulls {

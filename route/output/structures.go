@@ -50,9 +50,12 @@ type Structure struct {
 	Type string
 	// Purpose says why it is built (join, tap, turn, run, pull or splice: the added_structures
 	// layer's purposes) or what the plan does at an existing one (slack loop, pull point,
-	// both joined by ", ", or passed); where legs are joined (Joined), ", splice closure"
+	// both joined by ", ", or passed); then what else the bill builds there: "new duct entry
+	// (SPAN)" at a maintenance hole new duct enters (estimate.HoleEntryPurpose) and "pole
+	// riser (lateral of ENTRANCE)" at the handhole a lateral's riser comes down into
+	// (estimate.PoleRiserPurpose); where legs are joined (Joined), ", splice closure"
 	// after them (PurposeSpliceClosure), but at a splice point to build, whose purpose splice
-	// says it.
+	// says it. An existing maintenance hole no leg passes is listed when new duct enters it.
 	Purpose string
 	Point   orb.Point // WGS84 longitude and latitude, in degrees, rounded as geo.Rounded does
 	Legs    []string  // the feasible legs through it, "link/leg", in leg order
@@ -183,9 +186,31 @@ func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 		}
 		return []string{}
 	}
+	// What else the bill builds at a structure, named on its row (tester 11's finding 12):
+	// the maintenance hole entries of new duct, and the pole risers of counted laterals
+	// coming down into the handhole at the pole's foot.
+	builtAt := map[string][]string{}
+	if r.Estimate != nil {
+		for _, h := range r.Estimate.Construction.HoleEntries {
+			builtAt[h.Hole] = append(builtAt[h.Hole], estimate.HoleEntryPurpose(h.Span))
+		}
+		for _, en := range r.Estimate.Construction.Entrances {
+			if en.PoleRiser && en.LateralM > 0 && en.Tap != "" {
+				builtAt[en.Tap] = append(builtAt[en.Tap], estimate.PoleRiserPurpose(en.Entrance))
+			}
+		}
+	}
 	var out []Structure
 	add := func(s Structure) {
 		s.Mark = len(out) + 1
+		if s.ID != "" {
+			for _, what := range builtAt[s.ID] {
+				if s.Purpose != "" {
+					s.Purpose += ", "
+				}
+				s.Purpose += what
+			}
+		}
 		s.Point = geo.Rounded(s.Point).(orb.Point)
 		if s.Legs == nil {
 			s.Legs = []string{}
@@ -266,7 +291,7 @@ func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 		if r.Site.LoopStructure(st.ID) {
 			legs = passed[place{id: st.ID}]
 		}
-		if len(legs) == 0 {
+		if len(legs) == 0 && len(builtAt[st.ID]) == 0 {
 			continue
 		}
 		var what []string
@@ -276,7 +301,7 @@ func structuresOf(r *route.Result, pulls []pullPoint) ([]Structure, error) {
 		if pulled[st.ID] {
 			what = append(what, PurposePullPoint)
 		}
-		if len(what) == 0 {
+		if len(what) == 0 && len(legs) > 0 {
 			what = append(what, PurposePassed)
 		}
 		add(Structure{ID: st.ID, Status: StructureExisting, Type: st.Type, Purpose: strings.Join(what, ", "),
@@ -307,8 +332,8 @@ func splicePointsOnSpans(r *route.Result) []splicePoint {
 			continue
 		}
 		typ := geo.StructureHandhole
-		if span.Type == geo.TypeAerial {
-			typ = TypeSpliceClosure
+		if !sp.At.BuildsHandhole(r.Site.Net) {
+			typ = TypeSpliceClosure // on an aerial span's strand
 		}
 		out = append(out, splicePoint{SplicePointToBuild: sp, point: span.PointAt(sp.At.AtM), typ: typ})
 	}

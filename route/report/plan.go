@@ -204,26 +204,28 @@ type planView struct {
 	Feasible   int
 	TotalRoute string
 	NewTrench  string
-	Laterals   string // the building laterals' part of NewTrench, "" for none
-	Opened     string // "N proposed spans"
-	Worst      string
-	Total      string
-	PricedNote string // output.Summary.PricedNote
-	NotPriced  string // output.Summary.NotPricedNote
-	Budget     string
-	Over       string
-	OverPct    string
-	IsOver     bool
-	HasBudget  bool
-	BudgetBar  struct{ TotalW, BudgetX, Class, LabelX, Anchor, BudgetAnchor string }
-	Costs      []bar
-	CostsH     string
-	Media      []mediumRow
-	Map        mapView
-	Legend     legend
-	Legs       []legRow
-	Infeasible int
-	Wavelength []int
+	// NewWorkParts is NewTrench's bored and building laterals' parts (output.NewWorkParts),
+	// "" for none.
+	NewWorkParts string
+	Opened       string // "N proposed spans"
+	Worst        string
+	Total        string
+	PricedNote   string // output.Summary.PricedNote
+	NotPriced    string // output.Summary.NotPricedNote
+	Budget       string
+	Over         string
+	OverPct      string
+	IsOver       bool
+	HasBudget    bool
+	BudgetBar    struct{ TotalW, BudgetX, Class, LabelX, Anchor, BudgetAnchor string }
+	Costs        []bar
+	CostsH       string
+	Media        []mediumRow
+	Map          mapView
+	Legend       legend
+	Legs         []legRow
+	Infeasible   int
+	Wavelength   []int
 	// Attenuation is the cabled attenuation the loss budgets count, one entry per fibre
 	// construction the legs use (attenuationUsed).
 	Attenuation []string
@@ -398,7 +400,13 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 	}
 	s := output.Summarize(r)
 	v := &planView{S: s, Unit: opt.units().Length, Currency: r.Currency, Hub: r.Hub,
-		Cautions: r.Cautions, CautionsPreamble: route.CautionsPreamble, CautionsClosing: route.CautionsClosing}
+		CautionsPreamble: route.CautionsPreamble, CautionsClosing: route.CautionsClosing}
+	// What calls for each caution in the run's units (a handhole's place names its distance);
+	// its text as written, which gives both units.
+	for _, c := range r.Cautions {
+		c.Where = c.WhereIn(opt.lengthU)
+		v.Cautions = append(v.Cautions, c)
+	}
 	phys := map[string]bool{}
 	for _, l := range r.Legs {
 		if l.Feasible && l.Application != "" {
@@ -431,8 +439,8 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 	tot := output.TotalsOf(r)
 	v.TotalRoute = opt.lengthU(tot.RouteM)
 	v.NewTrench = opt.lengthU(tot.NewM)
-	if r.Estimate != nil && r.Estimate.Construction.LateralM > 0 {
-		v.Laterals = opt.lengthU(r.Estimate.Construction.LateralM)
+	if r.Estimate != nil {
+		v.NewWorkParts = output.NewWorkParts(r.Estimate.Construction, opt.lengthU)
 	}
 	v.Opened = output.Counted(len(r.Opened), "proposed span", "proposed spans")
 	if s.WorstMarginDB != nil {

@@ -182,9 +182,13 @@ func TestPlanContent(t *testing.T) {
 		// The gap to the bound as the terminal prints it (output.GapText, in percent).
 		", gap " + output.GapText(s.GapPct) + " <span",
 		"13,487.8 m", // total route of the demo, as summary.json has it
+		// The new trench with its bored part, in the terminal's words (output.NewWorkParts):
+		// the demo bores P-5's 20.0 m (tester 11's finding 13: the report said "new trench"
+		// for bored metres).
+		"20.0 m of it bored; 46.2 m of it building laterals)",
 		// The safety cautions the demo's work calls for (route.Result.Cautions): locates, trench
 		// (29 CFR 1926 Subpart P), bore, the pole line, the tunnel, maintenance holes, lasers.
-		"one-call service", "invisible", "confined spaces", "<b>Trench cave-in.</b>", "29 CFR 1926 Subpart P",
+		"one-call service", "invisible", "confined spaces", "<b>Trench and excavation cave-in.</b>", "29 CFR 1926 Subpart P",
 		"<b>Directional bore.</b>", "<b>Pole lines.</b>", "29 CFR 1910.268(n)", "<b>Utility tunnels.</b>",
 		"In this plan: 3 legs on aerial pathways ", "authority having jurisdiction",
 		// The cable's own jacket beside the medium: the demo's outside-plant legs are black

@@ -232,6 +232,16 @@ type SplicePoint struct {
 	SlackM float64
 }
 
+// BuildsHandhole reports whether p is a splice point to build that is a handhole dug in the
+// ground: a join no structure takes (NoStructure) on a span that is not aerial. On an aerial
+// span it is a closure on the strand, nothing dug; off the spans (in a riser, a slack loop or
+// a lateral) it has no place of its own. The one answer the structures table, the excavation
+// cautions and the crew's entries read.
+func (p SplicePoint) BuildsHandhole(n *geo.Network) bool {
+	sp, ok := n.Span(p.Span)
+	return p.NoStructure && ok && sp.Type != geo.TypeAerial
+}
+
 // Text is the place as a person reads it, with lengths written by length (the output's units).
 func (p SplicePoint) Text(length func(m float64) string) string {
 	switch {
