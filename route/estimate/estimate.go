@@ -1411,7 +1411,7 @@ func (r *run) splicePoints() {
 			place := sp.Text(MetresText)
 			why := "has no maintenance hole or handhole within its reel's reach (" + place + ")"
 			if sp.AtReelEnd {
-				why = "is placed at its reel's end (" + place + "), not in the last structure before it: there the leg would take a join more and its loss budget would not close"
+				why = "is placed at its reel's end (" + place + "), not in the last structure before it: there the leg would take a join more"
 			}
 			e.Warnings = append(e.Warnings, fmt.Sprintf("%s %s: mid-span splice %d of %d %s; build a splice point there (a handhole, or a closure on an aerial span's strand): the bill's \""+SplicePointItem+"\" line, at splice_point_each",
 				l.Link.ID, l.Name, n+1, len(l.Cable.Splices), why))
@@ -1482,10 +1482,7 @@ func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg) []
 	}
 	qs = append(qs, l.Attenuators...)
 	if t.Joins > 0 {
-		joins := float64(t.Joins) * n
-		add(media.CategoryMaterial, "splice closure, mid-span join", media.UnitEach, joins, media.PriceKey{Item: media.PriceSpliceClosure})
-		add(media.CategoryMaterial, fmt.Sprintf("splice tray, %d splices", p.TraySplices()), media.UnitEach, joins*float64(p.TraysFor(t.Size.Count)), media.PriceKey{Item: media.PriceSpliceTray})
-		work("splice fibre, mid-span joins", media.UnitEach, joins*float64(t.Size.Count), media.PriceKey{Item: media.RateSplice})
+		times(float64(t.Joins)*n, items.Join(p, t.Size.Count)...)
 	}
 	// Along the route by pathway type; then risers, coils and entrance loops inside the buildings,
 	// counted laterals and structure loops in duct.

@@ -1,6 +1,7 @@
 package routing
 
 import (
+	"cmp"
 	"fmt"
 	"math"
 	"slices"
@@ -36,11 +37,13 @@ type CableTakeoff struct {
 	LengthM  float64 // the length bought: ChannelM + WasteM rounded up to a whole metre; with joins the reels' cuts added up (ReelsM)
 	Reels    int     // reels of at most design.reel_m that LengthM takes
 	Joins    int     // mid-span splices between reels; each strand's path crosses every one
-	// Splices are where the Joins go, in travel order from the served building (placeJoins);
-	// ReelsM the length cut from each reel, in metres (whole metres, with waste, the splicing
-	// slack at its joined ends included), which sum to
-	// LengthM, or with an entrance transition to OutsideLengthM: the joins are then placed and
-	// the reels cut over the outside-plant cable only (cutOutside). One reel without joins.
+	// Splices are where the Joins go, in travel order from the served building (cut: the
+	// fewest joins the reels allow, structures first where that costs no join more, or each in
+	// the last structure before its reel runs out when that is cheaper, fillLeg); ReelsM the
+	// length cut from each reel, in metres (whole metres, with waste, the splicing slack at its
+	// joined ends included), which sum to LengthM, or with an entrance transition to
+	// OutsideLengthM: the joins are then placed and the reels cut over the outside-plant cable
+	// only, the inside pieces being other cable. One reel without joins.
 	Splices []SplicePoint
 	ReelsM  []float64
 
@@ -69,9 +72,9 @@ type CableTakeoff struct {
 	InsideSize   media.Size
 	InsideCables int
 
-	// What placing the joins again over the outside cable needs (cutOutside): the structures
+	// What placing the joins again over the outside cable needs (cut): the structures
 	// and spans along the channel, the served building, and the channel metres the inside
-	// pieces take at each end before waste.
+	// pieces take at each end before waste (0 over the whole cable).
 	spans                      []spanOnChannel
 	served                     string
 	insideToChM, insideFromChM float64
@@ -147,10 +150,7 @@ func takeoff(s *site.Site, d plan.Design, leg *Leg, built builtOn) CableTakeoff 
 		served = leg.Link.To
 	}
 	t.spans, t.served = spans, served
-	lengthM, _ := reels(d, t.ChannelM)
-	splices, reelsM := placeJoins(d, passes, spans, t.ChannelM, lengthM, served)
-	t.LengthM = t.setReels(d, splices, reelsM)
-	return t
+	return t.cut(d, 0, 0, false)
 }
 
 // setReels sets the takeoff's mid-span splices and reels (placeJoins' answer; one reel of the
@@ -170,23 +170,59 @@ func (t *CableTakeoff) setReels(d plan.Design, splices []SplicePoint, reelsM []f
 	return sum
 }
 
-// joinsAtReelEnds is t with its mid-span splices at its reels' ends (splice points to build,
-// AtReelEnd) instead of in the last structure before each reel runs out, and true, when that
-// takes fewer joins: the count by length alone that the optimizer's reach assumes (reels,
-// Model.reachM). A designer builds a splice point rather than lose a link to the join that
-// placing every splice in a structure adds; fillLeg asks for it only when the loss budget
-// fails with the joins in structures.
-func (t CableTakeoff) joinsAtReelEnds(d plan.Design) (CableTakeoff, bool) {
-	lengthM, _ := reels(d, t.beforeJoinsM())
-	splices, reelsM := placeJoins(d, nil, t.spans, t.beforeJoinsM(), lengthM, t.served)
-	if len(splices) >= t.Joins {
-		return t, false
+// cut is t with its mid-span joins placed and its reels cut over the cable between insideToChM
+// metres of channel from the served building's end and insideFromChM metres before the other
+// (the outside-plant cable between an entrance transition's splices; 0 and 0, the whole cable,
+// without a transition: the inside pieces are other cable, cut from other reels): with the
+// fewest joins the reels allow (fewestJoins), or, with inStructures, each join in the last
+// structure before its reel runs out (placeJoins), which may take more. It is the one
+// placement of a leg's joins: the medium choice (fillLeg), the loss budget, the cable
+// schedule, the cut list and the bill read it, and the optimizer's reach counts the joins the
+// same length takes (reels, joinsUpToM, over the outside cable of a transition laying,
+// Model.reachWithJoinsM). Splices keep their places along the whole channel; ReelsM are the
+// cable's between the two points, and LengthM their sum (Fit adds the inside pieces).
+func (t CableTakeoff) cut(d plan.Design, insideToChM, insideFromChM float64, inStructures bool) CableTakeoff {
+	beforeM := t.beforeJoinsM()
+	startM := min(max(insideToChM, 0), beforeM)
+	outM := max(beforeM-startM-max(insideFromChM, 0), 0)
+	t.insideToChM, t.insideFromChM = startM, beforeM-startM-outM
+	var passes []SplicePoint
+	for _, p := range t.Passed {
+		if p.ChannelM > startM && p.ChannelM < startM+outM {
+			p.ChannelM -= startM
+			passes = append(passes, p)
+		}
+	}
+	spans := make([]spanOnChannel, len(t.spans))
+	for i, sc := range t.spans {
+		sc.startM -= startM
+		spans[i] = sc
+	}
+	lengthM, _ := reels(d, outM)
+	var splices []SplicePoint
+	var reelsM []float64
+	if inStructures {
+		splices, reelsM = placeJoins(d, passes, spans, outM, lengthM, t.served)
+	} else {
+		splices = fewestJoins(d, passes, spans, outM, t.served)
+		reelsM = cutReels(d, splices, outM, lengthM)
 	}
 	for i := range splices {
-		splices[i].AtReelEnd = true
+		splices[i].ChannelM += startM
 	}
 	t.LengthM = t.setReels(d, splices, reelsM)
-	return t, true
+	return t
+}
+
+// SplicePoints is the splice points to build among the takeoff's joins (NoStructure).
+func (t CableTakeoff) SplicePoints() int {
+	n := 0
+	for _, p := range t.Splices {
+		if p.NoStructure {
+			n++
+		}
+	}
+	return n
 }
 
 // SplicePoint is a place along a leg: a structure by its ID (a junction's, for a handhole the
@@ -203,8 +239,8 @@ type SplicePoint struct {
 	Added       bool
 	NoStructure bool
 	// AtReelEnd marks a NoStructure splice placed at its reel's end although a structure
-	// before it could take it (joinsAtReelEnds): there the leg would need a join more than its
-	// length does, and the loss budget would not close.
+	// before it could take it (fewestJoins): there the leg would need a join more than its
+	// length does.
 	AtReelEnd bool
 	// ChannelM is where it is along the channel, in metres from the served building's end of
 	// the cable (its riser, coil and entrance loop first), the splicing slack at joins before
@@ -431,9 +467,19 @@ func placeJoins(d plan.Design, passes []SplicePoint, spans []spanOnChannel, chan
 		splices = append(splices, p)
 		start, headM = p.ChannelM, slackM
 	}
+	return splices, cutReels(d, splices, channelM, lengthM)
+}
+
+// cutReels cuts the reels of a channel channelM metres long (before the splicing slack of its
+// joins) joined at splices: each piece between two joins with the splicing slack of its joined
+// ends and the design's waste, up to a whole metre, at most design.reel_m (a piece carried on
+// to a structure on its reel's waste is cut to the whole reel); without joins the one reel is
+// lengthM.
+func cutReels(d plan.Design, splices []SplicePoint, channelM, lengthM float64) (reelsM []float64) {
 	if len(splices) == 0 {
-		return nil, []float64{lengthM}
+		return []float64{lengthM}
 	}
+	slackM := d.SpliceSlackM
 	prev := 0.0
 	for i, p := range append(slices.Clone(splices), SplicePoint{ChannelM: channelM}) {
 		pieceM := p.ChannelM - prev + 2*slackM // a reel between two joins
@@ -447,7 +493,114 @@ func placeJoins(d plan.Design, passes []SplicePoint, spans []spanOnChannel, chan
 		reelsM = append(reelsM, cutM)
 		prev = p.ChannelM
 	}
-	return splices, reelsM
+	return reelsM
+}
+
+// fewestJoins places the mid-span splices of a channel channelM metres long (before the
+// splicing slack of its joins) whose structures passed are passes (in travel order, ChannelM
+// along this channel) with the fewest joins its reels allow, and among placements with that
+// many the fewest splice points to build: a join goes in a structure wherever that costs no
+// join more, and at a reel's end (NoStructure; AtReelEnd when a structure within that reel's
+// reach was passed over, since taking it would cost a join more) only where no structure
+// serves. A reel carries what placeJoins says it does: reel_m / (1 + waste_pct/100) of
+// channel, the splicing slack at its joined ends included, or its whole length when it is
+// carried on to a structure on its waste. So a splice point is never followed by a join a few
+// metres on in a structure (review 14 F6), and a join is never put in a structure near the
+// building when the join after it would still need a splice point that one join alone, placed
+// farther, would do without (tester 11 F4). Without structures it gives as many joins as
+// reels(channelM) by length, at the reels' ends. Common practice, no published source.
+//
+// It works by joins: the places a cable with k joins can have its k-th join, each with the
+// fewest splice points to get there, a place kept only when no place farther on needs as few
+// (a later join never reaches less far); the first k from whose places the last reel reaches
+// the end wins, with its fewest splice points, then its last join the farthest on.
+func fewestJoins(d plan.Design, passes []SplicePoint, spans []spanOnChannel, channelM float64, served string) []SplicePoint {
+	if d.ReelM <= 0 {
+		return nil
+	}
+	capM := reelCarriesM(d)
+	slackM := d.SpliceSlackM
+	overM := d.ReelM - capM // a reel's waste
+	type place struct {
+		atM     float64
+		pass    int  // index into passes, -1 for a splice point to build
+		passed  bool // a splice point with a structure within its reel's reach passed over
+		points  int  // splice points to build up to and including this one
+		parent  int  // index into places, -1 for the cable's start
+		isStart bool
+	}
+	places := []place{{isStart: true, pass: -1, parent: -1}}
+	layer := []int{0}
+	headOf := func(p place) float64 {
+		if p.isStart {
+			return 0
+		}
+		return slackM
+	}
+	for len(layer) > 0 {
+		best := -1
+		for _, i := range layer {
+			p := places[i]
+			if channelM-p.atM+headOf(p) <= capM+1e-9 && (best < 0 || p.points < places[best].points || p.points == places[best].points && p.atM > places[best].atM) {
+				best = i
+			}
+		}
+		if best >= 0 {
+			var out []SplicePoint
+			for i := best; !places[i].isStart; i = places[i].parent {
+				p := places[i]
+				sp := SplicePoint{ID: served, NoStructure: true, AtReelEnd: p.passed, ChannelM: p.atM}
+				if p.pass >= 0 {
+					sp = passes[p.pass]
+				} else if id, m, end, ok := locate(spans, d.SlackLoopStructureM, p.atM); ok {
+					sp.Span, sp.AtM, sp.End = id, m, end
+				}
+				out = append(out, sp)
+			}
+			slices.Reverse(out)
+			return out
+		}
+		// The next join's places from each of this layer's: every structure its reel reaches
+		// (on its waste too), and its reel's end.
+		var next []place
+		for _, i := range layer {
+			p := places[i]
+			endM := p.atM + capM - headOf(p) - slackM
+			within := false
+			for j := range passes {
+				at := passes[j].ChannelM
+				if at <= p.atM+1e-9 || at > endM+overM+1e-9 {
+					continue
+				}
+				within = within || at <= endM+1e-9
+				next = append(next, place{atM: at, pass: j, points: p.points, parent: i})
+			}
+			next = append(next, place{atM: endM, pass: -1, passed: within, points: p.points + 1, parent: i})
+		}
+		// Keep, farthest first, a place only when it needs fewer splice points than every
+		// place farther on (ties: the one found first, from the farthest parent).
+		slices.SortStableFunc(next, func(a, b place) int {
+			switch {
+			case a.atM != b.atM:
+				return cmp.Compare(b.atM, a.atM)
+			case a.points != b.points:
+				return a.points - b.points
+			case a.pass != b.pass:
+				return b.pass - a.pass // a structure before a splice point at the same place
+			}
+			return cmp.Compare(places[b.parent].atM, places[a.parent].atM)
+		})
+		layer = layer[:0]
+		least := math.MaxInt
+		for _, p := range next {
+			if p.points < least {
+				least = p.points
+				places = append(places, p)
+				layer = append(layer, len(places)-1)
+			}
+		}
+	}
+	return nil
 }
 
 // reelCarriesM is the channel a reel of design.reel_m carries, in metres: reel_m / (1 +
@@ -514,53 +667,17 @@ func (t *CableTakeoff) Fit(cat *media.Catalog, ch media.Choice, wastePct float64
 	if ch.Inside != "" {
 		t.InsideSize, t.InsideCables = m.Construction(ch.Inside).Fit(ch.Strands)
 		t.InsideRunM, t.InsideEnds = ch.InsideM, ch.InsideAt.Count()
-		to, from := ch.InsideAM, ch.InsideBM
-		t.insideToChM, t.insideFromChM = to, from
 		piece := func(m float64) float64 { return math.Ceil(m*(1+wastePct/100) - 1e-9) }
-		t.InsideToM = math.Min(t.LengthM, piece(to))
-		t.InsideFromM = math.Min(t.LengthM-t.InsideToM, piece(from))
+		wholeM := piece(t.ChannelM) // the whole cable in one length
+		t.InsideToM = math.Min(wholeM, piece(ch.InsideAM))
+		t.InsideFromM = math.Min(wholeM-t.InsideToM, piece(ch.InsideBM))
 		t.InsideLengthM = t.InsideToM + t.InsideFromM
-	}
-}
-
-// cutOutside places the joins and cuts the reels of a leg with an entrance transition over its
-// outside-plant cable only, after Fit: that cable runs between the transition splices (or
-// from one to the telecom room at an end without a transition), and the inside pieces are
-// other cable from other reels, so a reel starts at the served building's transition
-// (insideToChM along the channel, 0 without one there) and the last ends at the
-// cross-connect's (or its telecom room). Splices keep their places along the whole channel; ReelsM is then the
-// outside cable's reels (summing to OutsideLengthM), and LengthM the outside reels plus the
-// inside pieces. It returns whether the joins changed. Without a transition it does nothing.
-func (t *CableTakeoff) cutOutside(d plan.Design) bool {
-	if t.InsideLengthM == 0 {
-		return false
-	}
-	if t.Joins == 0 { // no joins over the whole cable, none over a part: one reel, the outside cut
-		t.ReelsM = []float64{t.LengthM - t.InsideLengthM}
-		return false
-	}
-	startM, outM := t.insideToChM, t.beforeJoinsM()-t.insideToChM-t.insideFromChM
-	if outM <= 0 {
-		return false
-	}
-	var passes []SplicePoint
-	for _, p := range t.Passed {
-		if p.ChannelM > startM && p.ChannelM < startM+outM {
-			p.ChannelM -= startM
-			passes = append(passes, p)
+		if t.Joins == 0 { // one outside reel: what the inside pieces leave of the whole length
+			t.ReelsM = []float64{wholeM - t.InsideLengthM}
 		}
 	}
-	spans := make([]spanOnChannel, len(t.spans))
-	for i, sc := range t.spans {
-		sc.startM -= startM
-		spans[i] = sc
+	t.LengthM = t.InsideLengthM
+	for _, m := range t.ReelsM {
+		t.LengthM += m
 	}
-	lengthM, _ := reels(d, outM)
-	splices, reelsM := placeJoins(d, passes, spans, outM, lengthM, t.served)
-	for i := range splices {
-		splices[i].ChannelM += startM
-	}
-	changed := len(splices) != t.Joins
-	t.LengthM = t.InsideLengthM + t.setReels(d, splices, reelsM)
-	return changed
 }
