@@ -311,11 +311,18 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 		}
 		return leg.Cable.cut(d, insideAM, insideBM, inStructures)
 	}
+	whole := leg.Cable // takeoff's: the whole cable, the fewest joins
 	own := func(c media.Choice, inStructures bool) CableTakeoff {
+		if c.InsideAt == media.EndsNone && !inStructures {
+			return whole
+		}
 		return cutFor(c.InsideAt, c.InsideAM, c.InsideBM, inStructures)
 	}
-	var cuts []CableTakeoff // one per count of joins, most first
-	for _, at := range []media.Ends{media.EndsNone, media.EndA, media.EndB, media.EndsBoth} {
+	cuts := []CableTakeoff{leg.Cable} // one per count of joins, most first: the whole cable's (takeoff)
+	for _, at := range []media.Ends{media.EndA, media.EndB, media.EndsBoth} {
+		if leg.Cable.Joins == 0 {
+			break // a part of the cable takes no more joins than the whole
+		}
 		t := cutFor(at, facts.InsideAM, facts.InsideBM, false)
 		if !slices.ContainsFunc(cuts, func(c CableTakeoff) bool { return c.Joins == t.Joins }) {
 			cuts = append(cuts, t)
@@ -354,6 +361,10 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 			again.Reason = fmt.Sprintf("%s; measured on the %d mid-span joins of its outside cable (it was chosen on %d): %s",
 				first.Reason, mine.Joins, firstFacts.Splices-splices, lossText(again.Losses))
 			ch, leg.Cable, facts = again, mine, f
+		} else {
+			// Fewer joins and a shorter channel close whatever the longer closed; should a
+			// rule think otherwise, the choice stands as judged, its reels the outside cable's.
+			ch, leg.Cable = first, mine
 		}
 	}
 	leg.Rejected = ch.Rejected
@@ -366,12 +377,14 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 	// Each join in the last structure before its reel runs out may take more joins than the
 	// fewest but build fewer splice points: that placement is kept when it costs less (joinsCents,
 	// with the chosen cable) and the engine, judging it, keeps the same laying.
-	if alt := own(ch, true); alt.Joins > leg.Cable.Joins && alt.SplicePoints() < leg.Cable.SplicePoints() &&
-		cm.joinsCents(alt, ch) < cm.joinsCents(leg.Cable, ch) {
-		f := withCable(facts, alt)
-		if again := cm.eng.Choose(f); again.Feasible && sameLaying(again, ch) {
-			ch, leg.Cable, facts = again, alt, f
-			leg.Rejected, leg.Choice, leg.ReasonCode = ch.Rejected, ch.Reason, ch.Code
+	if leg.Cable.SplicePoints() > 0 { // with none there is nothing to spare
+		if alt := own(ch, true); alt.Joins > leg.Cable.Joins && alt.SplicePoints() < leg.Cable.SplicePoints() &&
+			cm.joinsCents(alt, ch) < cm.joinsCents(leg.Cable, ch) {
+			f := withCable(facts, alt)
+			if again := cm.eng.Choose(f); again.Feasible && sameLaying(again, ch) {
+				ch, leg.Cable, facts = again, alt, f
+				leg.Rejected, leg.Choice, leg.ReasonCode = ch.Rejected, ch.Reason, ch.Code
+			}
 		}
 	}
 	leg.Cable.Fit(cm.eng.Catalog(), ch, cm.design.WastePct)

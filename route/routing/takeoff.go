@@ -186,17 +186,20 @@ func (t CableTakeoff) cut(d plan.Design, insideToChM, insideFromChM float64, inS
 	startM := min(max(insideToChM, 0), beforeM)
 	outM := max(beforeM-startM-max(insideFromChM, 0), 0)
 	t.insideToChM, t.insideFromChM = startM, beforeM-startM-outM
-	var passes []SplicePoint
-	for _, p := range t.Passed {
-		if p.ChannelM > startM && p.ChannelM < startM+outM {
-			p.ChannelM -= startM
-			passes = append(passes, p)
+	passes, spans := t.Passed, t.spans // the whole cable: as they are
+	if startM > 0 || outM < beforeM {
+		passes = nil
+		for _, p := range t.Passed {
+			if p.ChannelM > startM && p.ChannelM < startM+outM {
+				p.ChannelM -= startM
+				passes = append(passes, p)
+			}
 		}
-	}
-	spans := make([]spanOnChannel, len(t.spans))
-	for i, sc := range t.spans {
-		sc.startM -= startM
-		spans[i] = sc
+		spans = make([]spanOnChannel, len(t.spans))
+		for i, sc := range t.spans {
+			sc.startM -= startM
+			spans[i] = sc
+		}
 	}
 	lengthM, _ := reels(d, outM)
 	var splices []SplicePoint
