@@ -146,33 +146,39 @@ func TestTransitionJoinsOutsideCable(t *testing.T) {
 	}
 }
 
-// TestJoinsCheaperInStructures: each join in the last structure before its reel runs out can
-// take a join more than the fewest but build fewer splice points; priced by the one price of a
-// placement (a join's closure, trays, splicing, cable ends, installation and splicing slack;
-// a splice point at splice_point_each), it is kept where it costs less. With the demo book,
-// which leaves splice_point_each out (a splice point priced at 0), every leg takes the fewest
-// joins; with a splice point at 20,000.00 (invented, far above a join) legs whose fewest joins
-// need splice points take more joins in structures and build fewer, and no leg builds more.
-// Common practice, no published source.
+// TestJoinsCheaperInStructures: the fewest splice points to build can take more joins than
+// the fewest joins; priced by the one price of a placement (a join's closure, trays, splicing,
+// cable ends, installation and splicing slack; a splice point at splice_point_each), the
+// cheaper is kept. With a splice point at 1.00 (invented, far below a join) every leg takes the
+// fewest joins; at 20,000.00 (invented, far above) legs whose fewest joins need splice points
+// take more joins in structures and build fewer, and no leg builds more. Without
+// splice_point_each (the demo book), which the bill would leave out of its total, a splice
+// point is never traded for joins: the placements are those at 20,000.00. Common practice, no
+// published source.
 func TestJoinsCheaperInStructures(t *testing.T) {
 	t.Parallel()
 	s, p := testsite.Demo(t)
 	q := *p
 	q.Design.ReelM, q.Design.SpliceSlackM = 300, 15
-	fewest := testplan.SolvePlan(t, s, &q)
+	unpriced := testplan.SolvePlan(t, s, &q)
+	q.Prices = testplan.DemoBookWith(t, "splice_point_each: 1.00\n")
+	cheap := testplan.SolvePlan(t, s, &q)
 	q.Prices = testplan.DemoBookWith(t, "splice_point_each: 20000.00\n")
-	priced := testplan.SolvePlan(t, s, &q)
-	if len(fewest.Legs) != len(priced.Legs) {
-		t.Fatalf("%d legs, %d with the splice point priced", len(fewest.Legs), len(priced.Legs))
+	dear := testplan.SolvePlan(t, s, &q)
+	if len(cheap.Legs) != len(dear.Legs) || len(cheap.Legs) != len(unpriced.Legs) {
+		t.Fatalf("%d, %d and %d legs", len(cheap.Legs), len(dear.Legs), len(unpriced.Legs))
 	}
 	more := 0
-	for i := range fewest.Legs {
-		a, b := &fewest.Legs[i], &priced.Legs[i]
+	for i := range cheap.Legs {
+		a, b, u := &cheap.Legs[i], &dear.Legs[i], &unpriced.Legs[i]
 		if !a.Feasible || !b.Feasible || a.Medium != b.Medium {
 			continue
 		}
+		if u.Cable.Joins != b.Cable.Joins || u.Cable.SplicePoints() != b.Cable.SplicePoints() {
+			t.Errorf("%s %s: %d joins, %d splice points without a price; %d and %d at 20,000.00", a.Link.ID, a.Name, u.Cable.Joins, u.Cable.SplicePoints(), b.Cable.Joins, b.Cable.SplicePoints())
+		}
 		if b.Cable.SplicePoints() > a.Cable.SplicePoints() || b.Cable.Joins < a.Cable.Joins {
-			t.Errorf("%s %s: %d joins, %d splice points to build with the splice point priced; %d and %d without", a.Link.ID, a.Name, b.Cable.Joins, b.Cable.SplicePoints(), a.Cable.Joins, a.Cable.SplicePoints())
+			t.Errorf("%s %s: %d joins, %d splice points at 20,000.00; %d and %d at 1.00", a.Link.ID, a.Name, b.Cable.Joins, b.Cable.SplicePoints(), a.Cable.Joins, a.Cable.SplicePoints())
 		}
 		if b.Cable.Joins > a.Cable.Joins {
 			more++

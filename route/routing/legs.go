@@ -302,21 +302,21 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 	// cut from other reels), which may take fewer. The engine judges every laying on one count
 	// of joins, so it is asked on each count the layings' cables take, most first, and its
 	// choice stands on the first count that is its own laying's.
-	cutFor := func(at media.Ends, insideAM, insideBM float64, inStructures bool) CableTakeoff {
+	cutFor := func(at media.Ends, insideAM, insideBM float64, fewerPoints bool) CableTakeoff {
 		if !at.Has(media.EndA) {
 			insideAM = 0
 		}
 		if !at.Has(media.EndB) {
 			insideBM = 0
 		}
-		return leg.Cable.cut(d, insideAM, insideBM, inStructures)
+		return leg.Cable.cut(d, insideAM, insideBM, fewerPoints)
 	}
 	whole := leg.Cable // takeoff's: the whole cable, the fewest joins
-	own := func(c media.Choice, inStructures bool) CableTakeoff {
-		if c.InsideAt == media.EndsNone && !inStructures {
+	own := func(c media.Choice, fewerPoints bool) CableTakeoff {
+		if c.InsideAt == media.EndsNone && !fewerPoints {
 			return whole
 		}
-		return cutFor(c.InsideAt, c.InsideAM, c.InsideBM, inStructures)
+		return cutFor(c.InsideAt, c.InsideAM, c.InsideBM, fewerPoints)
 	}
 	cuts := []CableTakeoff{leg.Cable} // one per count of joins, most first: the whole cable's (takeoff)
 	for _, at := range []media.Ends{media.EndA, media.EndB, media.EndsBoth} {
@@ -358,8 +358,8 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 		f := withCable(facts, mine)
 		if again := cm.eng.ChooseLaid(f, first.Medium, media.Laying{Construction: first.Construction, Inside: first.Inside, At: first.InsideAt}); again.Feasible {
 			again.Rejected, again.Code = first.Rejected, first.Code
-			again.Reason = fmt.Sprintf("%s; measured on the %d mid-span joins of its outside cable (it was chosen on %d): %s",
-				first.Reason, mine.Joins, firstFacts.Splices-splices, lossText(again.Losses))
+			again.Reason = fmt.Sprintf("%s; measured on the %d mid-span joins of its outside cable (it was chosen on %d): %s, %s",
+				first.Reason, mine.Joins, firstFacts.Splices-splices, again.Application, lossText(again.Losses))
 			ch, leg.Cable, facts = again, mine, f
 		} else {
 			// Fewer joins and a shorter channel close whatever the longer closed; should a
@@ -374,12 +374,15 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 		return
 	}
 	leg.Feasible = true
-	// Each join in the last structure before its reel runs out may take more joins than the
-	// fewest but build fewer splice points: that placement is kept when it costs less (joinsCents,
-	// with the chosen cable) and the engine, judging it, keeps the same laying.
+	// The fewest splice points to build may take more joins than the fewest joins: that
+	// placement is kept when it costs less (joinsCents,
+	// with the chosen cable; without splice_point_each, which the bill then leaves out of its
+	// total, a splice point is never traded for joins: the fewer splice points are kept) and
+	// the engine, judging it, keeps the same laying.
 	if leg.Cable.SplicePoints() > 0 { // with none there is nothing to spare
+		_, pointPriced := cm.prices.Price(media.PriceKey{Item: media.PriceSplicePoint})
 		if alt := own(ch, true); alt.Joins > leg.Cable.Joins && alt.SplicePoints() < leg.Cable.SplicePoints() &&
-			cm.joinsCents(alt, ch) < cm.joinsCents(leg.Cable, ch) {
+			(!pointPriced || cm.joinsCents(alt, ch) < cm.joinsCents(leg.Cable, ch)) {
 			f := withCable(facts, alt)
 			if again := cm.eng.Choose(f); again.Feasible && sameLaying(again, ch) {
 				ch, leg.Cable, facts = again, alt, f

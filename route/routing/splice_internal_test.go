@@ -10,36 +10,38 @@ import (
 	"spanwright/route/plan"
 )
 
-// TestPlaceJoins: each join goes in the last structure passed at or before where its reel
-// runs out (a reel of reel_m carries reel_m / (1 + waste) of channel), the next reel starting
-// there; with no structure within reach, at the reel's end on its span; reels are cut in whole
-// metres with waste. The rule is common practice, no published source (splice closures in
+// TestPlaceJoins: with the fewest splice points to build, each join goes in a structure passed
+// (a reel of reel_m carries reel_m / (1 + waste) of channel), the next reel starting there, and
+// at a reel's end on its span only where no structure serves; reels are cut in whole metres
+// with waste. The rule is common practice, no published source (splice closures in
 // maintenance holes and handholes: TIA-758-B, from memory).
 func TestPlaceJoins(t *testing.T) {
 	d := plan.Design{ReelM: 105, WastePct: 5, SlackLoopStructureM: 3} // 100 m of channel a reel
 	passes := []SplicePoint{{ID: "MH-1", ChannelM: 30}, {ID: "HH-2", ChannelM: 90}, {ID: "J7", Added: true, ChannelM: 150}, {ID: "MH-3", ChannelM: 260}}
 	sp := &geo.Span{ID: "A-1", LengthM: 200}
 	spans := []spanOnChannel{{span: sp, fromEnd: "MH-9", reverse: true, startM: 100}} // channel 100 → 300 m, drawn the other way
-	splices, reels := placeJoins(d, passes, spans, 300, 315, "B1")
+	splices, reels := fewerPoints(d, passes, spans, 300, 315, "B1")
 	var at []string
 	for _, p := range splices {
 		at = append(at, p.Text(func(m float64) string { return strconv.FormatFloat(m, 'f', 1, 64) + " m" }))
 	}
-	// 90 (HH-2, last of 30 and 90 within 100 m); 150 (J7 within 190); none in (150, 250]:
-	// the reel's end at 250 m, 150 m into A-1 in travel order, 50 m from its from end, named
-	// as the end the distance counts from (tester 8 finding 9).
-	want := []string{"HH-2", "J7 (handhole to add)", "no structure: on A-1, 50.0 m from the MH-9 end"}
+	// 300 m over structures at 30, 90, 150 and 260 m: no placement without a splice point
+	// (none between 150 + 100 and 300 − 100 can follow J7, nor MH-3 anything before 160), and
+	// with one, 3 joins: HH-2, J7 and the reel's end at 250 m, or HH-2, the reel's end at 190 m
+	// and MH-3; the last join farthest on wins: 190 m is 90 m into A-1 in travel order, 110 m
+	// from its from end, named as the end the distance counts from (tester 8 finding 9).
+	want := []string{"HH-2", "no structure: on A-1, 110.0 m from the MH-9 end", "MH-3"}
 	if !slices.Equal(at, want) {
 		t.Errorf("joins at %q, want %q", at, want)
 	}
-	// 90, 60, 100 and 50 m of channel with 5 % waste, each up to a whole metre.
-	if wantM := []float64{95, 63, 105, 53}; !slices.Equal(reels, wantM) {
+	// 90, 100, 70 and 40 m of channel with 5 % waste, each up to a whole metre.
+	if wantM := []float64{95, 105, 74, 42}; !slices.Equal(reels, wantM) {
 		t.Errorf("reels %v, want %v", reels, wantM)
 	}
-	if s, r := placeJoins(plan.Design{ReelM: 0}, passes, spans, 300, 315, "B1"); s != nil || !slices.Equal(r, []float64{315}) {
+	if s, r := fewerPoints(plan.Design{ReelM: 0}, passes, spans, 300, 315, "B1"); s != nil || !slices.Equal(r, []float64{315}) {
 		t.Errorf("no reel limit: %v, %v", s, r)
 	}
-	if s, r := placeJoins(d, passes, spans, 100, 105, "B1"); s != nil || !slices.Equal(r, []float64{105}) {
+	if s, r := fewerPoints(d, passes, spans, 100, 105, "B1"); s != nil || !slices.Equal(r, []float64{105}) {
 		t.Errorf("one reel's channel: %v, %v", s, r)
 	}
 }
@@ -79,18 +81,17 @@ func TestFewestJoins(t *testing.T) {
 	}
 	// Tester 11 F4 (a 676 m channel on 500 m reels with 5 % waste and 15 m of splicing slack
 	// a cable end: 476.19 m of channel a reel): a handhole 29.5 m from the building and the
-	// next structure at 499.6 m. In structures first the handhole takes a join and the next
-	// reel, reaching 29.5 + 476.19 − 30 = 475.7 m, still needs a splice point: 2 joins. One
-	// splice point 461.19 m out (476.19 − 15) does with one.
+	// next structure at 499.6 m. A join in the handhole leaves the next reel reaching
+	// 29.5 + 476.19 − 30 = 475.7 m (499.5 on its waste): a splice point still, and 2 joins (the
+	// plan before). One splice point 461.19 m out (476.19 − 15) does with one, whichever
+	// order: the fewest joins, or the fewest splice points and then joins.
 	d2 := plan.Design{ReelM: 500, WastePct: 5, SpliceSlackM: 15, SlackLoopStructureM: 3}
 	farm := []SplicePoint{{ID: "J0010", Added: true, ChannelM: 29.5}, {ID: "MH-1", ChannelM: 499.6}}
-	first, _ := placeJoins(d2, farm, nil, 676.1, 710, "FARM")
-	if len(first) != 2 {
-		t.Fatalf("in structures first: %d joins %q, want 2", len(first), at(first))
-	}
-	got = fewestJoins(d2, farm, nil, 676.1, "FARM")
-	if len(got) != 1 || !got[0].NoStructure || !got[0].AtReelEnd || math.Abs(got[0].ChannelM-(500/1.05-15)) > 1e-9 {
-		t.Errorf("fewest: joins %+v, want one splice point at %.2f m", got, 500/1.05-15)
+	fewer, _ := fewerPoints(d2, farm, nil, 676.1, 710, "FARM")
+	for _, got := range [][]SplicePoint{fewestJoins(d2, farm, nil, 676.1, "FARM"), fewer} {
+		if len(got) != 1 || !got[0].NoStructure || !got[0].AtReelEnd || math.Abs(got[0].ChannelM-(500/1.05-15)) > 1e-9 {
+			t.Errorf("joins %+v, want one splice point at %.2f m", got, 500/1.05-15)
+		}
 	}
 }
 
@@ -99,25 +100,26 @@ func TestFewestJoins(t *testing.T) {
 // coiled there with the closure; common practice, no published source: 10–15 m an end, from
 // memory), so a reel reaches splice_slack_m less before a join at its end, 2 × less between
 // two joins, and each reel is cut with the slack of its joined ends. TestPlaceJoins's campus
-// with 5 m of splicing slack: HH-2 (90 m, within 100 − 5), J7 (150 m, within 90 + 100 − 10),
-// then a splice point at 240 m (150 + 100 − 10; MH-3 at 260 m is beyond it and its waste),
-// 60 m into A-1 from its MH-9 end.
+// with 5 m of splicing slack: HH-2 (90 m, within 100 − 5), a splice point at 180 m (90 + 100
+// − 10), 120 m from A-1's MH-9 end, then MH-3 (260 m, within 180 + 100 − 10), one splice
+// point and 3 joins as the fewest placement with a splice point has (J7 at 150 m leaves
+// the next reel short of MH-3: 240 m).
 func TestPlaceJoinsSpliceSlack(t *testing.T) {
 	d := plan.Design{ReelM: 105, WastePct: 5, SlackLoopStructureM: 3, SpliceSlackM: 5}
 	passes := []SplicePoint{{ID: "MH-1", ChannelM: 30}, {ID: "HH-2", ChannelM: 90}, {ID: "J7", Added: true, ChannelM: 150}, {ID: "MH-3", ChannelM: 260}}
 	sp := &geo.Span{ID: "A-1", LengthM: 200}
 	spans := []spanOnChannel{{span: sp, fromEnd: "MH-9", reverse: true, startM: 100}}
-	splices, reelsM := placeJoins(d, passes, spans, 300, 315, "B1")
+	splices, reelsM := fewerPoints(d, passes, spans, 300, 315, "B1")
 	var at []string
 	for _, p := range splices {
 		at = append(at, p.Text(func(m float64) string { return strconv.FormatFloat(m, 'f', 1, 64) + " m" }))
 	}
-	if want := []string{"HH-2", "J7 (handhole to add)", "no structure: on A-1, 60.0 m from the MH-9 end"}; !slices.Equal(at, want) {
+	if want := []string{"HH-2", "no structure: on A-1, 120.0 m from the MH-9 end", "MH-3"}; !slices.Equal(at, want) {
 		t.Errorf("joins at %q, want %q", at, want)
 	}
-	// 90 + 5, 60 + 10, 90 + 10 and 60 + 5 m with 5 % waste, each up to a whole metre: every
+	// 90 + 5, 90 + 10, 80 + 10 and 40 + 5 m with 5 % waste, each up to a whole metre: every
 	// reel within its 105 m.
-	if wantM := []float64{100, 74, 105, 69}; !slices.Equal(reelsM, wantM) {
+	if wantM := []float64{100, 105, 95, 48}; !slices.Equal(reelsM, wantM) {
 		t.Errorf("reels %v, want %v", reelsM, wantM)
 	}
 	tk := CableTakeoff{ChannelM: 300}
@@ -142,11 +144,13 @@ func TestPlaceJoinsCarriedOn(t *testing.T) {
 	}{
 		{"within the reel's waste", 102, []string{"HH-1", "no structure: 202.0 m along the cable from B1"}, []float64{105, 105, 51}},
 		{"on the reel's last metre", 105, []string{"HH-1", "no structure: 205.0 m along the cable from B1"}, []float64{105, 105, 48}},
-		{"beyond the whole reel", 106, []string{"no structure: 100.0 m along the cable from B1", "HH-1", "no structure: 206.0 m along the cable from B1"}, []float64{105, 7, 105, 47}},
+		// Review 14 F6: a join in HH-1 6 m after a splice point at the reel's end was a join
+		// more for no splice point fewer ([105 7 105 47]); the reels' ends take 2.
+		{"beyond the whole reel", 106, []string{"no structure: 100.0 m along the cable from B1", "no structure: 200.0 m along the cable from B1"}, []float64{105, 105, 53}},
 	} {
-		// In structures first (placeJoins); the leg's placement is the fewest joins
-		// (fewestJoins), which never joins again a few metres after a splice point (review 14
-		// F6): 250 m takes 2 joins whatever the structure, in HH-1 when the reel reaches it.
+		// With the fewest splice points (above) and with the fewest joins alike, 250 m takes 2
+		// joins whatever the structure, in HH-1 when the reel reaches it, never one a few
+		// metres after a splice point.
 		fewest := fewestJoins(d, []SplicePoint{{ID: "HH-1", ChannelM: tc.atM}}, nil, 250, "B1")
 		if len(fewest) != 2 || (tc.atM <= 105) != (fewest[0].ID == "HH-1" && !fewest[0].NoStructure) {
 			t.Errorf("%s: fewest joins %+v, want 2, the first in HH-1 when a whole reel reaches it", tc.name, fewest)
@@ -157,7 +161,7 @@ func TestPlaceJoinsCarriedOn(t *testing.T) {
 			}
 		}
 		t.Run(tc.name, func(t *testing.T) {
-			splices, reelsM := placeJoins(d, []SplicePoint{{ID: "HH-1", ChannelM: tc.atM}}, nil, 250, 263, "B1")
+			splices, reelsM := fewerPoints(d, []SplicePoint{{ID: "HH-1", ChannelM: tc.atM}}, nil, 250, 263, "B1")
 			var at []string
 			for _, p := range splices {
 				at = append(at, p.Text(func(m float64) string { return strconv.FormatFloat(m, 'f', 1, 64) + " m" }))
@@ -188,7 +192,7 @@ func TestJoinsByLengthWithSlack(t *testing.T) {
 		}
 		for _, x := range []float64{upM - 1, upM, upM + 1} {
 			_, reels := reels(d, x)
-			splices, _ := placeJoins(d, nil, nil, x, 0, "B1")
+			splices, _ := fewerPoints(d, nil, nil, x, 0, "B1")
 			fewest := fewestJoins(d, nil, nil, x, "B1")
 			wantN := n
 			if x > upM {
@@ -202,4 +206,16 @@ func TestJoinsByLengthWithSlack(t *testing.T) {
 	if got := spliceSlackM(d, 3); got != 90 {
 		t.Errorf("3 joins' splicing slack: %.0f m, want 90", got)
 	}
+}
+
+// fewestJoins is placeJoins with the fewest joins.
+func fewestJoins(d plan.Design, passes []SplicePoint, spans []spanOnChannel, channelM float64, served string) []SplicePoint {
+	return placeJoins(d, passes, spans, channelM, served, false)
+}
+
+// fewerPoints is placeJoins with the fewest splice points to build, and its reels cut
+// (cutReels; lengthM the one reel without joins).
+func fewerPoints(d plan.Design, passes []SplicePoint, spans []spanOnChannel, channelM, lengthM float64, served string) ([]SplicePoint, []float64) {
+	splices := placeJoins(d, passes, spans, channelM, served, true)
+	return splices, cutReels(d, splices, channelM, lengthM)
 }

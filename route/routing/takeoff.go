@@ -38,8 +38,8 @@ type CableTakeoff struct {
 	Reels    int     // reels of at most design.reel_m that LengthM takes
 	Joins    int     // mid-span splices between reels; each strand's path crosses every one
 	// Splices are where the Joins go, in travel order from the served building (cut: the
-	// fewest joins the reels allow, structures first where that costs no join more, or each in
-	// the last structure before its reel runs out when that is cheaper, fillLeg); ReelsM the
+	// fewest joins the reels allow, structures where that costs no join more, or the fewest
+	// splice points to build where that costs less, fillLeg); ReelsM the
 	// length cut from each reel, in metres (whole metres, with waste, the splicing slack at its
 	// joined ends included), which sum to LengthM, or with an entrance transition to
 	// OutsideLengthM: the joins are then placed and the reels cut over the outside-plant cable
@@ -173,15 +173,15 @@ func (t *CableTakeoff) setReels(d plan.Design, splices []SplicePoint, reelsM []f
 // cut is t with its mid-span joins placed and its reels cut over the cable between insideToChM
 // metres of channel from the served building's end and insideFromChM metres before the other
 // (the outside-plant cable between an entrance transition's splices; 0 and 0, the whole cable,
-// without a transition: the inside pieces are other cable, cut from other reels): with the
-// fewest joins the reels allow (fewestJoins), or, with inStructures, each join in the last
-// structure before its reel runs out (placeJoins), which may take more. It is the one
-// placement of a leg's joins: the medium choice (fillLeg), the loss budget, the cable
-// schedule, the cut list and the bill read it, and the optimizer's reach counts the joins the
-// same length takes (reels, joinsUpToM, over the outside cable of a transition laying,
+// without a transition: the inside pieces are other cable, cut from other reels), with the
+// fewest joins the reels allow, or with fewerPoints the fewest splice points to build
+// (placeJoins). It is the one placement of a leg's joins: the medium choice (fillLeg, which
+// keeps the fewer splice points where they cost less), the loss budget, the cable schedule,
+// the cut list and the bill read it, and the optimizer's reach counts the joins the same
+// length takes (reels, joinsUpToM, over the outside cable of a transition laying,
 // Model.reachWithJoinsM). Splices keep their places along the whole channel; ReelsM are the
 // cable's between the two points, and LengthM their sum (Fit adds the inside pieces).
-func (t CableTakeoff) cut(d plan.Design, insideToChM, insideFromChM float64, inStructures bool) CableTakeoff {
+func (t CableTakeoff) cut(d plan.Design, insideToChM, insideFromChM float64, fewerPoints bool) CableTakeoff {
 	beforeM := t.beforeJoinsM()
 	startM := min(max(insideToChM, 0), beforeM)
 	outM := max(beforeM-startM-max(insideFromChM, 0), 0)
@@ -202,14 +202,8 @@ func (t CableTakeoff) cut(d plan.Design, insideToChM, insideFromChM float64, inS
 		}
 	}
 	lengthM, _ := reels(d, outM)
-	var splices []SplicePoint
-	var reelsM []float64
-	if inStructures {
-		splices, reelsM = placeJoins(d, passes, spans, outM, lengthM, t.served)
-	} else {
-		splices = fewestJoins(d, passes, spans, outM, t.served)
-		reelsM = cutReels(d, splices, outM, lengthM)
-	}
+	splices := placeJoins(d, passes, spans, outM, t.served, fewerPoints)
+	reelsM := cutReels(d, splices, outM, lengthM)
 	for i := range splices {
 		splices[i].ChannelM += startM
 	}
@@ -242,7 +236,7 @@ type SplicePoint struct {
 	Added       bool
 	NoStructure bool
 	// AtReelEnd marks a NoStructure splice placed at its reel's end although a structure
-	// before it could take it (fewestJoins): there the leg would need a join more than its
+	// before it could take it (placeJoins): there the leg would need a join more than its
 	// length does.
 	AtReelEnd bool
 	// ChannelM is where it is along the channel, in metres from the served building's end of
@@ -425,52 +419,128 @@ func locate(spans []spanOnChannel, loopM, atM float64) (string, float64, string,
 
 // placeJoins places the mid-span splices of a channel channelM metres long (before the
 // splicing slack of its joins, CableTakeoff.beforeJoinsM) whose structures passed are passes
-// (passesOf, in travel order) and cuts its reels: a reel of design.reel_m carries reel_m / (1 +
-// waste_pct/100) metres of channel (the waste spread over its length), the splicing slack at its
-// joined ends included (design.splice_slack_m each: a reel between two joins carries twice that
-// less of the route). Each join goes in the last structure passed at or before where its reel
-// runs out (a splice closure is stored in a maintenance hole or handhole with its slack:
-// TIA-758-B, from memory), the next reel starting there. Where none lies within a reel's reach,
-// the join goes in the first structure passed beyond it that the reel's whole length reaches,
-// its waste spent (that piece cut to the whole reel): a crew carries the reel on to a
-// structure rather than build a splice point a few metres short of it, where the next reel
-// would be joined again (review 12b: 0.8 m apart on reels of 120 m; common practice, no
-// published source). Failing that, the join is at its reel's end, NoStructure, by its
-// distance along the cable from the served building. Each reel is cut to its channel with waste in whole metres
-// (ReelsM), at most reel_m; without joins the one reel is lengthM. So the joins, which the
-// bill counts and the loss budget takes as splices, are the placed ones: as many as
-// reels(channelM) gives by length, or more where structures are far apart.
-func placeJoins(d plan.Design, passes []SplicePoint, spans []spanOnChannel, channelM, lengthM float64, served string) (splices []SplicePoint, reelsM []float64) {
+// (passesOf, in travel order, ChannelM along this channel). A reel of design.reel_m carries
+// reel_m / (1 + waste_pct/100) metres of channel (the waste spread over its length), the
+// splicing slack at its joined ends included (design.splice_slack_m each: a reel between two
+// joins carries twice that less of the route), or its whole length when carried on to a
+// structure just beyond that on its waste (the piece cut to the whole reel: a crew carries the
+// reel on to a structure rather than build a splice point a few metres short of it; common
+// practice, no published source). A join goes in a structure passed (a splice closure is
+// stored in a maintenance hole or handhole with its slack: TIA-758-B, from memory) or, where
+// none serves, at its reel's end (NoStructure: a splice point to build, on its span, or off the
+// spans by its distance along the cable from the served building; AtReelEnd when a structure
+// within that reel's reach was passed over).
+//
+// With fewerPoints false it takes the fewest joins the reels allow, and among placements
+// with that many the fewest splice points to build: without structures as many joins as
+// reels(channelM) by length, at the reels' ends. With fewerPoints true the fewest splice
+// points to build, and among placements with that many the fewest joins, which can be more
+// than the length alone takes where structures are far apart. Either way a join is never put
+// a few metres after a splice point in a structure the reel could have been carried past
+// (review 14 F6), nor in a structure near the building when the next reel would still need a
+// splice point that one join farther on does without (tester 11 F4). Ties go to the placement
+// whose last join is farthest on. Common practice, no published source.
+//
+// It works by joins: the places a cable with k joins can have its k-th join, each with the
+// fewest splice points to get there, a place kept only when no place farther on needs as few
+// (from farther on a reel never reaches less far); the first k from whose places the last
+// reel reaches the end wins (fewest joins), or the k whose finish needs the fewest splice
+// points, once no place left can do with fewer (fewer points).
+func placeJoins(d plan.Design, passes []SplicePoint, spans []spanOnChannel, channelM float64, served string, fewerPoints bool) []SplicePoint {
 	if d.ReelM <= 0 {
-		return nil, []float64{lengthM}
+		return nil
 	}
 	capM := reelCarriesM(d)
 	slackM := d.SpliceSlackM
-	overM := d.ReelM - capM  // a reel's waste
-	start, headM := 0.0, 0.0 // where the reel starts, and the splicing slack at its start
-	for channelM-start+headM > capM+1e-9 {
-		endM := start + capM - headM - slackM // the farthest its join may be: the reel's end
-		best := -1
-		for i := range passes {
-			if at := passes[i].ChannelM; at > start+1e-9 && at <= endM+1e-9 {
-				best = i
-			}
-		}
-		if best < 0 {
-			if i := slices.IndexFunc(passes, func(p SplicePoint) bool { return p.ChannelM > endM+1e-9 }); i >= 0 && passes[i].ChannelM <= endM+overM+1e-9 {
-				best = i
-			}
-		}
-		p := SplicePoint{ID: served, NoStructure: true, ChannelM: endM}
-		if best >= 0 {
-			p = passes[best]
-		} else if id, m, end, ok := locate(spans, d.SlackLoopStructureM, p.ChannelM); ok {
-			p.Span, p.AtM, p.End = id, m, end
-		}
-		splices = append(splices, p)
-		start, headM = p.ChannelM, slackM
+	overM := d.ReelM - capM // a reel's waste
+	type place struct {
+		atM     float64
+		pass    int  // index into passes, -1 for a splice point to build
+		passed  bool // a splice point with a structure within its reel's reach passed over
+		points  int  // splice points to build up to and including this one
+		parent  int  // index into places, -1 for the cable's start
+		isStart bool
 	}
-	return splices, cutReels(d, splices, channelM, lengthM)
+	places := []place{{isStart: true, pass: -1, parent: -1}}
+	layer := []int{0}
+	headOf := func(p place) float64 {
+		if p.isStart {
+			return 0
+		}
+		return slackM
+	}
+	path := func(last int) []SplicePoint {
+		var out []SplicePoint
+		for i := last; !places[i].isStart; i = places[i].parent {
+			p := places[i]
+			sp := SplicePoint{ID: served, NoStructure: true, AtReelEnd: p.passed, ChannelM: p.atM}
+			if p.pass >= 0 {
+				sp = passes[p.pass]
+			} else if id, m, end, ok := locate(spans, d.SlackLoopStructureM, p.atM); ok {
+				sp.Span, sp.AtM, sp.End = id, m, end
+			}
+			out = append(out, sp)
+		}
+		slices.Reverse(out)
+		return out
+	}
+	done := -1 // the best finish so far (fewerPoints)
+	for len(layer) > 0 {
+		best, least := -1, math.MaxInt
+		for _, i := range layer {
+			p := places[i]
+			least = min(least, p.points)
+			if channelM-p.atM+headOf(p) <= capM+1e-9 && (best < 0 || p.points < places[best].points || p.points == places[best].points && p.atM > places[best].atM) {
+				best = i
+			}
+		}
+		if best >= 0 && (done < 0 || places[best].points < places[done].points) {
+			done = best
+		}
+		if done >= 0 && (!fewerPoints || places[done].points <= least) {
+			return path(done)
+		}
+		// The next join's places from each of this layer's: every structure its reel reaches
+		// (on its waste too), and its reel's end.
+		var next []place
+		for _, i := range layer {
+			p := places[i]
+			endM := p.atM + capM - headOf(p) - slackM
+			within := false
+			for j := range passes {
+				at := passes[j].ChannelM
+				if at <= p.atM+1e-9 || at > endM+overM+1e-9 {
+					continue
+				}
+				within = within || at <= endM+1e-9
+				next = append(next, place{atM: at, pass: j, points: p.points, parent: i})
+			}
+			next = append(next, place{atM: endM, pass: -1, passed: within, points: p.points + 1, parent: i})
+		}
+		// Keep, farthest first, a place only when it needs fewer splice points than every
+		// place farther on (ties: a structure before a splice point, then the farthest parent).
+		slices.SortStableFunc(next, func(a, b place) int {
+			switch {
+			case a.atM != b.atM:
+				return cmp.Compare(b.atM, a.atM)
+			case a.points != b.points:
+				return a.points - b.points
+			case a.pass != b.pass:
+				return b.pass - a.pass
+			}
+			return cmp.Compare(places[b.parent].atM, places[a.parent].atM)
+		})
+		layer = layer[:0]
+		fewest := math.MaxInt
+		for _, p := range next {
+			if p.points < fewest {
+				fewest = p.points
+				places = append(places, p)
+				layer = append(layer, len(places)-1)
+			}
+		}
+	}
+	return nil
 }
 
 // cutReels cuts the reels of a channel channelM metres long (before the splicing slack of its
@@ -497,113 +567,6 @@ func cutReels(d plan.Design, splices []SplicePoint, channelM, lengthM float64) (
 		prev = p.ChannelM
 	}
 	return reelsM
-}
-
-// fewestJoins places the mid-span splices of a channel channelM metres long (before the
-// splicing slack of its joins) whose structures passed are passes (in travel order, ChannelM
-// along this channel) with the fewest joins its reels allow, and among placements with that
-// many the fewest splice points to build: a join goes in a structure wherever that costs no
-// join more, and at a reel's end (NoStructure; AtReelEnd when a structure within that reel's
-// reach was passed over, since taking it would cost a join more) only where no structure
-// serves. A reel carries what placeJoins says it does: reel_m / (1 + waste_pct/100) of
-// channel, the splicing slack at its joined ends included, or its whole length when it is
-// carried on to a structure on its waste. So a splice point is never followed by a join a few
-// metres on in a structure (review 14 F6), and a join is never put in a structure near the
-// building when the join after it would still need a splice point that one join alone, placed
-// farther, would do without (tester 11 F4). Without structures it gives as many joins as
-// reels(channelM) by length, at the reels' ends. Common practice, no published source.
-//
-// It works by joins: the places a cable with k joins can have its k-th join, each with the
-// fewest splice points to get there, a place kept only when no place farther on needs as few
-// (a later join never reaches less far); the first k from whose places the last reel reaches
-// the end wins, with its fewest splice points, then its last join the farthest on.
-func fewestJoins(d plan.Design, passes []SplicePoint, spans []spanOnChannel, channelM float64, served string) []SplicePoint {
-	if d.ReelM <= 0 {
-		return nil
-	}
-	capM := reelCarriesM(d)
-	slackM := d.SpliceSlackM
-	overM := d.ReelM - capM // a reel's waste
-	type place struct {
-		atM     float64
-		pass    int  // index into passes, -1 for a splice point to build
-		passed  bool // a splice point with a structure within its reel's reach passed over
-		points  int  // splice points to build up to and including this one
-		parent  int  // index into places, -1 for the cable's start
-		isStart bool
-	}
-	places := []place{{isStart: true, pass: -1, parent: -1}}
-	layer := []int{0}
-	headOf := func(p place) float64 {
-		if p.isStart {
-			return 0
-		}
-		return slackM
-	}
-	for len(layer) > 0 {
-		best := -1
-		for _, i := range layer {
-			p := places[i]
-			if channelM-p.atM+headOf(p) <= capM+1e-9 && (best < 0 || p.points < places[best].points || p.points == places[best].points && p.atM > places[best].atM) {
-				best = i
-			}
-		}
-		if best >= 0 {
-			var out []SplicePoint
-			for i := best; !places[i].isStart; i = places[i].parent {
-				p := places[i]
-				sp := SplicePoint{ID: served, NoStructure: true, AtReelEnd: p.passed, ChannelM: p.atM}
-				if p.pass >= 0 {
-					sp = passes[p.pass]
-				} else if id, m, end, ok := locate(spans, d.SlackLoopStructureM, p.atM); ok {
-					sp.Span, sp.AtM, sp.End = id, m, end
-				}
-				out = append(out, sp)
-			}
-			slices.Reverse(out)
-			return out
-		}
-		// The next join's places from each of this layer's: every structure its reel reaches
-		// (on its waste too), and its reel's end.
-		var next []place
-		for _, i := range layer {
-			p := places[i]
-			endM := p.atM + capM - headOf(p) - slackM
-			within := false
-			for j := range passes {
-				at := passes[j].ChannelM
-				if at <= p.atM+1e-9 || at > endM+overM+1e-9 {
-					continue
-				}
-				within = within || at <= endM+1e-9
-				next = append(next, place{atM: at, pass: j, points: p.points, parent: i})
-			}
-			next = append(next, place{atM: endM, pass: -1, passed: within, points: p.points + 1, parent: i})
-		}
-		// Keep, farthest first, a place only when it needs fewer splice points than every
-		// place farther on (ties: the one found first, from the farthest parent).
-		slices.SortStableFunc(next, func(a, b place) int {
-			switch {
-			case a.atM != b.atM:
-				return cmp.Compare(b.atM, a.atM)
-			case a.points != b.points:
-				return a.points - b.points
-			case a.pass != b.pass:
-				return b.pass - a.pass // a structure before a splice point at the same place
-			}
-			return cmp.Compare(places[b.parent].atM, places[a.parent].atM)
-		})
-		layer = layer[:0]
-		least := math.MaxInt
-		for _, p := range next {
-			if p.points < least {
-				least = p.points
-				places = append(places, p)
-				layer = append(layer, len(places)-1)
-			}
-		}
-	}
-	return nil
 }
 
 // reelCarriesM is the channel a reel of design.reel_m carries, in metres: reel_m / (1 +
