@@ -585,8 +585,10 @@ func reelCarriesM(d plan.Design) float64 {
 // waste, rounded up to a whole metre) and the reels of at most design.reel_m it takes by length
 // alone, each join adding its splicing slack (spliceSlackM): the mid-span splices (reels − 1)
 // the optimizer's reach counts for a channel that long (Model.reachM). A routed leg's joins are
-// placed at its structures (placeJoins), which can take more where they are far apart; the rule
-// engine then decides on those.
+// placed with as many (placeJoins with the fewest joins: TestJoinsByLengthWithSlack), or fewer
+// where a reel carried on to a structure on its waste spares one; the fewest splice points to
+// build can take more where structures are far apart, which fillLeg keeps only where that costs
+// less and the loss budget closes.
 func reels(d plan.Design, channelM float64) (lengthM float64, n int) {
 	lengthM = math.Ceil(channelM + channelM*d.WastePct/100 - 1e-9)
 	n = 1
