@@ -2,6 +2,7 @@ package route_test
 
 import (
 	"math"
+	"strings"
 	"testing"
 
 	"spanwright/route/internal/testplan"
@@ -59,9 +60,12 @@ func TestTransitionReelsOutsideOnly(t *testing.T) {
 // bought (with a transition the inside pieces are other cable: review 14 F1 found 1,375 m of
 // reels for 1,302 m of outside cable), one reel more than the joins, and no two joins are a
 // few metres apart where a reel carries more (review 14 F6: a splice point to build and, 9 m on,
-// a join in a structure). The bill's closures are the joins of every cable.
+// a join in a structure). The bill's closures are the joins of every cable. Among them are
+// legs the engine chose on a count of joins above their own outside cable's, measured again
+// on theirs (media.Engine.ChooseLaid): the checks hold for them too.
 func TestJoinsCountedOnce(t *testing.T) {
 	t.Parallel()
+	measured := 0 // legs chosen on a count of joins above their own cable's, measured again on theirs
 	for _, reel := range []float64{0, 120, 150, 300, 500, 1000} {
 		for _, slack := range []float64{0, 15, 60} {
 			if reel > 0 && 2*slack >= reel/1.05 {
@@ -76,6 +80,9 @@ func TestJoinsCountedOnce(t *testing.T) {
 				}
 				c := l.Cable
 				closures += c.Joins * c.Cables
+				if strings.Contains(l.Choice, "mid-span joins of its outside cable (it was chosen on") {
+					measured++
+				}
 				if term < 0 {
 					term = l.Losses[0].Splices - c.Joins - l.InsideAt.Count()
 				}
@@ -113,6 +120,9 @@ func TestJoinsCountedOnce(t *testing.T) {
 				t.Errorf("reel %g slack %g: the bill's closures %.0f, the legs' joins × cables %d", reel, slack, got, closures)
 			}
 		}
+	}
+	if measured == 0 {
+		t.Error("no leg chosen on a count of joins above its outside cable's: that path is not tested here")
 	}
 }
 
