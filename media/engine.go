@@ -796,7 +796,23 @@ func (c Choice) clone() Choice {
 	return c
 }
 
-func (e *Engine) choose(l Link) Choice {
+// ChooseLaid is Choose among the candidates of medium laid as lay alone: its application,
+// losses and cost on l's facts, the reason saying it was the only laying judged and no other
+// medium rejected. A caller that has chosen the laying on other facts (routing's fillLeg:
+// the reel joins of a transition's outside cable, which fewer than the count the choice was
+// made on) measures it so. Not remembered.
+func (e *Engine) ChooseLaid(l Link, medium string, lay Laying) Choice {
+	ch := e.chooseAmong(l, func(m *Medium, k *Construction, v variant) bool {
+		return m.ID == medium && layingOf(k, v) == lay
+	})
+	ch.Rejected = nil
+	return ch
+}
+
+func (e *Engine) choose(l Link) Choice { return e.chooseAmong(l, nil) }
+
+// chooseAmong is choose among the candidates keep keeps (all when nil).
+func (e *Engine) chooseAmong(l Link, keep func(m *Medium, k *Construction, v variant) bool) Choice {
 	if msg := checkLink(l); msg != "" {
 		return Choice{Reason: fmt.Sprintf("%s: bad facts: %s", linkName(l), msg), Code: CodeBadFacts}
 	}
@@ -815,7 +831,9 @@ func (e *Engine) choose(l Link) Choice {
 			}
 			for ki, k := range m.Constructions {
 				for _, v := range e.variants(l, a, m, k) {
-					specs = append(specs, spec{mi, ai, ki, v})
+					if keep == nil || keep(m, k, v) {
+						specs = append(specs, spec{mi, ai, ki, v})
+					}
 				}
 			}
 		}

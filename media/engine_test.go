@@ -1141,3 +1141,34 @@ func TestTransitionFactBothEnds(t *testing.T) {
 		t.Errorf("with the rule as it was: %s spliced to %q at %v, want both entrances: %s", ch.Construction, ch.Inside, ch.InsideAt, ch.Reason)
 	}
 }
+
+// TestChooseLaid: Choose among one laying's candidates alone. On TestLayingFor's duct link
+// (20 m of cable inside each building, a 500 m route) the engine chooses os2 laid as
+// indoor/outdoor cable; ChooseLaid of that laying gives the same application, losses and
+// cost, and ChooseLaid of outside-plant cable spliced to riser cable at both entrances gives
+// that laying with two splices more in its loss budget (ANSI/TIA-568.3-D: a splice each, from
+// memory) and no medium rejected; a laying the rules refuse is not feasible.
+func TestChooseLaid(t *testing.T) {
+	t.Parallel()
+	e := newEngine(t, nil, nil, EngineOptions{})
+	l := Link{ID: "L", RouteM: 500, RiserM: 30, SlackM: 10, RateGbps: 10, Outdoor: true, ConnectorPairs: 2, Strands: 12,
+		InsideAM: 20, InsideBM: 20, PathwayTypes: []string{"duct"}, MaxEMI: "none"}
+	ch := e.Choose(l)
+	if !ch.Feasible || ch.Medium != "os2" || ch.Construction != "indoor-outdoor" || ch.Inside != "" {
+		t.Fatalf("chosen: %+v", ch)
+	}
+	same := e.ChooseLaid(l, "os2", Laying{Construction: "indoor-outdoor"})
+	if !same.Feasible || same.Application != ch.Application || same.CostCents != ch.CostCents || !slices.Equal(same.Losses, ch.Losses) || same.Rejected != nil {
+		t.Errorf("the chosen laying alone: %+v, want %+v without rejections", same, ch)
+	}
+	spliced := e.ChooseLaid(l, "os2", Laying{Construction: "osp-loose-tube", Inside: "ofnr-riser", At: EndsBoth})
+	if !spliced.Feasible || spliced.Construction != "osp-loose-tube" || spliced.Inside != "ofnr-riser" || spliced.InsideAt != EndsBoth ||
+		spliced.Losses[0].Splices != ch.Losses[0].Splices+2 {
+		t.Errorf("spliced at both entrances: %+v", spliced)
+	}
+	buried := l
+	buried.PathwayTypes = []string{"buried"}
+	if refused := e.ChooseLaid(buried, "os2", Laying{Construction: "indoor-outdoor"}); refused.Feasible {
+		t.Errorf("indoor/outdoor buried: %+v, want not feasible (direct-burial)", refused)
+	}
+}

@@ -1458,7 +1458,7 @@ func (r *run) splicePoints() {
 			place := sp.Text(MetresText)
 			why := "has no maintenance hole or handhole within its reel's reach (" + place + ")"
 			if sp.AtReelEnd {
-				why = "is placed at its reel's end (" + place + "), not in the last structure before it: there the leg would take a join more and its loss budget would not close"
+				why = "is placed at its reel's end (" + place + "), not in the last structure before it: there the leg would take a join more"
 			}
 			e.Warnings = append(e.Warnings, fmt.Sprintf("%s %s: mid-span splice %d of %d %s; build a splice point there (a handhole, or a closure on an aerial span's strand): the bill's \""+SplicePointItem+"\" line, at splice_point_each",
 				l.Link.ID, l.Name, n+1, len(l.Cable.Splices), why))
@@ -1534,10 +1534,9 @@ func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg) []
 	}
 	qs = append(qs, l.Attenuators...)
 	if t.Joins > 0 {
-		joins := float64(t.Joins) * n
-		add(media.CategoryMaterial, "splice closure, mid-span join", media.UnitEach, joins, media.PriceKey{Item: media.PriceSpliceClosure})
-		add(media.CategoryMaterial, fmt.Sprintf("splice tray, %d splices", p.TraySplices()), media.UnitEach, float64(t.Joins*t.Cables.Trays(p)), media.PriceKey{Item: media.PriceSpliceTray})
-		work("splice fibre, mid-span joins", media.UnitEach, float64(t.Joins*t.Cables.Strands()), media.PriceKey{Item: media.RateSplice})
+		for _, c := range t.Cables { // each cable of the leg joined (media.Cables)
+			times(float64(t.Joins), items.Join(p, c.Count)...)
+		}
 	}
 	// Along the route by pathway type; then risers, coils and entrance loops inside the buildings,
 	// counted laterals and structure loops in duct.

@@ -102,6 +102,19 @@ func StructureLoops(metres float64) []media.Quantity {
 	return []media.Quantity{Pull(geo.TypeDuct, metres)}
 }
 
+// Join is what one mid-span join of one fibre cable of count strands puts on the bill besides
+// its cable: a splice closure, trays for every strand and the splicing of every strand (the
+// crew's cable ends and the closure's installation are counted with the leg's others,
+// routing.CableTakeoff.CableEnds and Enclosures). The bill (estimate's legItems) and the price
+// of a placement of joins (routing's joinsCents) read it.
+func Join(p *media.PriceBook, count int) []media.Quantity {
+	return []media.Quantity{
+		{Category: media.CategoryMaterial, Item: "splice closure, mid-span join", Unit: media.UnitEach, Amount: 1, Price: media.PriceKey{Item: media.PriceSpliceClosure}},
+		{Category: media.CategoryMaterial, Item: fmt.Sprintf("splice tray, %d splices", p.TraySplices()), Unit: media.UnitEach, Amount: float64(p.TraysFor(count)), Price: media.PriceKey{Item: media.PriceSpliceTray}},
+		{Category: media.CategoryLabour, Item: "splice fibre, mid-span joins", Unit: media.UnitEach, Amount: float64(count), Price: LabourHour, Rate: media.PriceKey{Item: media.RateSplice}},
+	}
+}
+
 // Cable is metres of one cable of medium on construction k in size count (4-pair copper
 // when !fibre).
 func Cable(medium, k string, count int, fibre bool, metres float64) media.Quantity {

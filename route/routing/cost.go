@@ -905,6 +905,11 @@ func (m *Model) reachM(s *site.Site, medium string, lay media.Laying, rate, futu
 // falls short of it (that band's channels all close). That n is at most the joins of a channel
 // R(0) long, and is found counting down from there: a few of the engine's answers, not one per
 // band.
+//
+// The joins are counted over the cable the laying buys from reels (CableTakeoff.cut): with an
+// entrance transition the outside-plant cable only, the channel less the inside metres at the
+// transition's ends (insideM), whose pieces are cut from other reels (review 14 F3: a leg that
+// closes with the joins its outside cable takes was refused on the joins of its whole channel).
 func (m *Model) reachWithJoinsM(s *site.Site, medium string, lay media.Laying, rate, future float64, facts media.Link) float64 {
 	base, slackM := facts.Splices, facts.SlackM
 	at := func(n int) float64 {
@@ -912,21 +917,31 @@ func (m *Model) reachWithJoinsM(s *site.Site, medium string, lay media.Laying, r
 		facts.Splices, facts.SlackM = base+n, slackM+joinsM
 		return s.Reaches.MaxChannelMAs(m.eng, medium, lay, rate, future, facts) - joinsM // shared by a sweep's price books
 	}
+	insideM := 0.0
+	if lay.Inside != "" {
+		if lay.At.Has(media.EndA) {
+			insideM += facts.InsideAM
+		}
+		if lay.At.Has(media.EndB) {
+			insideM += facts.InsideBM
+		}
+	}
+	upM := func(n int) float64 { return joinsUpToM(m.design, n) + insideM }
 	r0 := at(0)
-	if r0 <= joinsUpToM(m.design, 0) {
+	if r0 <= upM(0) {
 		return r0 // one reel (or no reel limit) carries it
 	}
-	_, reelsAt := reels(m.design, r0)
-	n := reelsAt - 1 // R(n) ≤ R(0) ≤ joinsUpToM(n)
+	_, reelsAt := reels(m.design, r0-insideM)
+	n := reelsAt - 1 // R(n) ≤ R(0) ≤ upM(n)
 	rn := at(n)
 	for n > 1 {
 		r := at(n - 1)
-		if r > joinsUpToM(m.design, n-1) {
+		if r > upM(n-1) {
 			break
 		}
 		n, rn = n-1, r
 	}
-	return max(rn, joinsUpToM(m.design, n-1))
+	return max(rn, upM(n-1))
 }
 
 // cableKey is what cableFor's answer depends on.

@@ -319,16 +319,75 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 		f.SlackM, f.Splices = t.SlackM(), splices+t.Joins
 		return f
 	}
-	facts = withCable(facts, leg.Cable)
-	ch := cm.eng.Choose(facts)
-	if !ch.Feasible {
-		// Joins in structures may take one more than the cable's length does; at the reels'
-		// ends (splice points to build) the loss budget may close.
-		if alt, fewer := leg.Cable.joinsAtReelEnds(cm.design); fewer {
-			f := withCable(facts, alt)
-			if again := cm.eng.Choose(f); again.Feasible {
-				leg.Cable, facts, ch = alt, f, again
-			}
+	d := cm.design
+	// The joins are placed over the cable a laying buys from reels: the whole cable, or with an
+	// entrance transition the outside-plant cable between its splices (the inside pieces are
+	// cut from other reels), which may take fewer. The engine judges every laying on one count
+	// of joins, so it is asked on each count the layings' cables take, most first, and its
+	// choice stands on the first count that is its own laying's.
+	cutFor := func(at media.Ends, insideAM, insideBM float64, fewerPoints bool) CableTakeoff {
+		if !at.Has(media.EndA) {
+			insideAM = 0
+		}
+		if !at.Has(media.EndB) {
+			insideBM = 0
+		}
+		return leg.Cable.cut(d, insideAM, insideBM, fewerPoints)
+	}
+	whole := leg.Cable // takeoff's: the whole cable, the fewest joins
+	own := func(c media.Choice, fewerPoints bool) CableTakeoff {
+		if c.InsideAt == media.EndsNone && !fewerPoints {
+			return whole
+		}
+		return cutFor(c.InsideAt, c.InsideAM, c.InsideBM, fewerPoints)
+	}
+	cuts := []CableTakeoff{leg.Cable} // one per count of joins, most first: the whole cable's (takeoff)
+	for _, at := range []media.Ends{media.EndA, media.EndB, media.EndsBoth} {
+		if leg.Cable.Joins == 0 {
+			break // a part of the cable takes no more joins than the whole
+		}
+		t := cutFor(at, facts.InsideAM, facts.InsideBM, false)
+		if !slices.ContainsFunc(cuts, func(c CableTakeoff) bool { return c.Joins == t.Joins }) {
+			cuts = append(cuts, t)
+		}
+	}
+	slices.SortStableFunc(cuts, func(a, b CableTakeoff) int { return b.Joins - a.Joins })
+	var ch, first media.Choice
+	var firstFacts media.Link
+	settled := false
+	for k, t := range cuts {
+		f := withCable(facts, t)
+		c := cm.eng.Choose(f)
+		if k == 0 {
+			ch, leg.Cable = c, t // infeasible on every count: the whole cable's reasons
+		}
+		if !c.Feasible {
+			continue
+		}
+		if mine := own(c, false); mine.Joins == t.Joins {
+			ch, leg.Cable, facts, settled = c, mine, f, true
+			break
+		}
+		if !first.Feasible {
+			first, firstFacts = c, f
+		}
+	}
+	if !settled && first.Feasible {
+		// The engine chose a transition on a count of joins above its outside cable's, and on
+		// that cable's count chose a laying whose cable takes more (one that count flattered):
+		// the first choice stands, and its laying is measured again on its outside cable's own
+		// joins (media.Engine.ChooseLaid), which are fewer, so it closes.
+		mine := own(first, false)
+		f := withCable(facts, mine)
+		if again := cm.eng.ChooseLaid(f, first.Medium, media.Laying{Construction: first.Construction, Inside: first.Inside, At: first.InsideAt}); again.Feasible {
+			again.Rejected, again.Code = first.Rejected, first.Code
+			again.Reason = fmt.Sprintf("%s; measured on the %d mid-span joins of its outside cable (it was chosen on %d): %s, %s",
+				first.Reason, mine.Joins, firstFacts.Splices-splices, again.Application, lossText(again.Losses))
+			ch, leg.Cable, facts = again, mine, f
+		} else {
+			// Fewer joins and a shorter channel close whatever the longer closed; should a
+			// rule think otherwise, the choice stands as judged, its reels the outside cable's.
+			ch, leg.Cable = first, mine
 		}
 	}
 	leg.Rejected = ch.Rejected
@@ -338,28 +397,27 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 		return
 	}
 	leg.Feasible = true
+	// The fewest splice points to build may take more joins than the fewest joins: that
+	// placement is kept when it costs less (joinsCents,
+	// with the chosen cable; without splice_point_each, which the bill then leaves out of its
+	// total, a splice point is never traded for joins: the fewer splice points are kept) and
+	// the engine, judging it, keeps the same laying.
+	if leg.Cable.SplicePoints() > 0 { // with none there is nothing to spare
+		_, pointPriced := cm.prices.Price(media.PriceKey{Item: media.PriceSplicePoint})
+		if alt := own(ch, true); alt.Joins > leg.Cable.Joins && alt.SplicePoints() < leg.Cable.SplicePoints() &&
+			(!pointPriced || cm.joinsCents(alt, ch) < cm.joinsCents(leg.Cable, ch)) {
+			f := withCable(facts, alt)
+			if again := cm.eng.Choose(f); again.Feasible && sameLaying(again, ch) {
+				ch, leg.Cable, facts = again, alt, f
+				leg.Rejected, leg.Choice, leg.ReasonCode = ch.Rejected, ch.Reason, ch.Code
+			}
+		}
+	}
 	leg.Cable.Fit(ch, cm.design.WastePct)
 	if m := cm.eng.Catalog().Medium(ch.Medium); m != nil && !m.Fibre() {
 		// Copper counts pairs, four to each 4-pair cable, not the fibre cable size the
 		// plan's strands would round up to (ANSI/TIA-568.2: a 4-pair cable serves one port).
 		leg.StrandsCable = PairsPerCable * len(leg.Cable.Cables)
-	}
-	if ch.Inside != "" {
-		// With an entrance transition the reels are the outside cable's (cutOutside): fewer
-		// joins there are fewer splices and less splicing slack in the loss budget, which the
-		// engine checks again; if it then chooses otherwise, the first choice stands, measured
-		// over the whole cable.
-		whole := leg.Cable
-		if leg.Cable.cutOutside(cm.design) {
-			facts = withCable(facts, leg.Cable)
-			again := cm.eng.Choose(facts)
-			if again.Feasible && again.Medium == ch.Medium && again.Construction == ch.Construction && again.Inside == ch.Inside && again.InsideAt == ch.InsideAt {
-				ch = again
-				leg.Rejected, leg.Choice, leg.ReasonCode = ch.Rejected, ch.Reason, ch.Code
-			} else {
-				leg.Cable = whole
-			}
-		}
 	}
 	leg.Medium, leg.Application, leg.Construction, leg.Inside, leg.InsideAt = ch.Medium, ch.Application, ch.Construction, ch.Inside, ch.InsideAt
 	leg.Losses = ch.Losses
@@ -370,6 +428,54 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 	if ch.Medium != optionMedium(option) {
 		leg.Choice += fmt.Sprintf(" (the optimizer routed it for %s)", optionMedium(option))
 	}
+}
+
+// lossText is the worst operating loss of a budget as a reason gives it: "loss 3.58 dB
+// against 4.50 dB at 1310 nm (margin 0.92 dB)"; "no loss budget" without one (copper).
+func lossText(ls []media.Loss) string {
+	w, found := media.Loss{}, false
+	for _, l := range ls {
+		if l.Operating && (!found || l.MarginDB < w.MarginDB) {
+			w, found = l, true
+		}
+	}
+	if !found {
+		return "no loss budget"
+	}
+	return fmt.Sprintf("loss %s dB against %s dB at %d nm (margin %s dB)", strconv.FormatFloat(w.LossDB, 'f', 2, 64),
+		strconv.FormatFloat(w.LimitDB, 'f', 2, 64), w.WavelengthNM, strconv.FormatFloat(w.MarginDB, 'f', 2, 64))
+}
+
+// sameLaying reports whether two choices lay the same cable: medium, construction and the
+// entrance transition with its ends.
+func sameLaying(a, b media.Choice) bool {
+	return a.Medium == b.Medium && a.Construction == b.Construction && a.Inside == b.Inside && a.InsideAt == b.InsideAt
+}
+
+// joinsCents is what a leg's mid-span joins cost laid as ch: per join and cable its
+// closure, trays and splicing (items.Join), its two cable ends prepared (crew and bid items),
+// the closure installed and the splicing slack (cable with waste, pulled as duct); and each
+// splice point to build (splice_point_each, 0 when the book leaves it out). The one price the
+// placements of a leg's joins are compared on (fillLeg). Common practice, no published source.
+func (m *Model) joinsCents(t CableTakeoff, ch media.Choice) int64 {
+	md := m.eng.Catalog().Medium(ch.Medium)
+	if md == nil || t.Joins == 0 {
+		return 0
+	}
+	var slackM float64 // the joins' splicing slack a cable, each join's own (joinSlackM)
+	for _, p := range t.Splices {
+		slackM += p.SlackM
+	}
+	var cents int64
+	for _, c := range ch.Cables { // each cable of the leg joined (media.Cables)
+		per := slices.Concat(items.Join(m.prices, c.Count),
+			items.Crew(m.prices, media.CrewCableEndPrep, 2), items.Crew(m.prices, media.CrewEnclosureInstall, 1),
+			m.bidItems(media.BidBases{CableEnds: 2}))
+		cents += int64(t.Joins)*m.cents(per...) + m.cents(append(items.StructureLoops(slackM),
+			items.Cable(ch.Medium, ch.Construction, c.Count, md.Fibre(), items.Wasted(m.design, slackM)))...)
+	}
+	point, _ := m.prices.Price(media.PriceKey{Item: media.PriceSplicePoint})
+	return cents + int64(t.SplicePoints())*point
 }
 
 var emiRank = map[string]int{geo.EMINone: 0, geo.EMILow: 1, geo.EMIHigh: 2}

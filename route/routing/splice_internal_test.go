@@ -1,6 +1,7 @@
 package routing
 
 import (
+	"math"
 	"slices"
 	"strconv"
 	"testing"
@@ -9,69 +10,88 @@ import (
 	"spanwright/route/plan"
 )
 
-// TestPlaceJoins: each join goes in the last structure passed at or before where its reel
-// runs out (a reel of reel_m carries reel_m / (1 + waste) of channel), the next reel starting
-// there; with no structure within reach, at the reel's end on its span; reels are cut in whole
-// metres with waste. The rule is common practice, no published source (splice closures in
+// TestPlaceJoins: with the fewest splice points to build, each join goes in a structure passed
+// (a reel of reel_m carries reel_m / (1 + waste) of channel), the next reel starting there, and
+// at a reel's end on its span only where no structure serves; reels are cut in whole metres
+// with waste. The rule is common practice, no published source (splice closures in
 // maintenance holes and handholes: TIA-758-B, from memory).
 func TestPlaceJoins(t *testing.T) {
 	d := plan.Design{ReelM: 105, WastePct: 5, SlackLoopStructureM: 3} // 100 m of channel a reel
 	passes := []SplicePoint{{ID: "MH-1", ChannelM: 30}, {ID: "HH-2", ChannelM: 90}, {ID: "J7", Added: true, ChannelM: 150}, {ID: "MH-3", ChannelM: 260}}
 	sp := &geo.Span{ID: "A-1", LengthM: 200}
 	spans := []spanOnChannel{{span: sp, fromEnd: "MH-9", reverse: true, startM: 100}} // channel 100 → 300 m, drawn the other way
-	splices, reels := placeJoins(d, passes, spans, 300, 315, "B1")
+	splices, reels := fewerPoints(d, passes, spans, 300, 315, "B1")
 	var at []string
 	for _, p := range splices {
 		at = append(at, p.Text(func(m float64) string { return strconv.FormatFloat(m, 'f', 1, 64) + " m" }))
 	}
-	// 90 (HH-2, last of 30 and 90 within 100 m); 150 (J7 within 190); none in (150, 250]:
-	// the reel's end at 250 m, 150 m into A-1 in travel order, 50 m from its from end, named
-	// as the end the distance counts from (tester 8 finding 9).
-	want := []string{"HH-2", "J7 (handhole to add)", "no structure: on A-1, 50.0 m from the MH-9 end"}
+	// 300 m over structures at 30, 90, 150 and 260 m: no placement without a splice point
+	// (none between 150 + 100 and 300 − 100 can follow J7, nor MH-3 anything before 160), and
+	// with one, 3 joins: HH-2, J7 and the reel's end at 250 m, or HH-2, the reel's end at 190 m
+	// and MH-3; the last join farthest on wins: 190 m is 90 m into A-1 in travel order, 110 m
+	// from its from end, named as the end the distance counts from (tester 8 finding 9).
+	want := []string{"HH-2", "no structure: on A-1, 110.0 m from the MH-9 end", "MH-3"}
 	if !slices.Equal(at, want) {
 		t.Errorf("joins at %q, want %q", at, want)
 	}
-	// 90, 60, 100 and 50 m of channel with 5 % waste, each up to a whole metre.
-	if wantM := []float64{95, 63, 105, 53}; !slices.Equal(reels, wantM) {
+	// 90, 100, 70 and 40 m of channel with 5 % waste, each up to a whole metre.
+	if wantM := []float64{95, 105, 74, 42}; !slices.Equal(reels, wantM) {
 		t.Errorf("reels %v, want %v", reels, wantM)
 	}
-	if s, r := placeJoins(plan.Design{ReelM: 0}, passes, spans, 300, 315, "B1"); s != nil || !slices.Equal(r, []float64{315}) {
+	if s, r := fewerPoints(plan.Design{ReelM: 0}, passes, spans, 300, 315, "B1"); s != nil || !slices.Equal(r, []float64{315}) {
 		t.Errorf("no reel limit: %v, %v", s, r)
 	}
-	if s, r := placeJoins(d, passes, spans, 100, 105, "B1"); s != nil || !slices.Equal(r, []float64{105}) {
+	if s, r := fewerPoints(d, passes, spans, 100, 105, "B1"); s != nil || !slices.Equal(r, []float64{105}) {
 		t.Errorf("one reel's channel: %v, %v", s, r)
 	}
 }
 
-// TestJoinsAtReelEnds: where the joins placed in structures (TestPlaceJoins: HH-2, J7 and a
-// reel's end, 3 joins for 300 m of channel) take more than the cable's length does (3 reels
-// of 100 m of channel: 2 joins), the joins at the reels' ends are the splice points to build
-// the length alone asks for, at 100 and 200 m, and the reels 105 m each; a takeoff whose
-// joins are already as few is left alone. Common practice, no published source (a splice
-// point built where a reel runs out rather than a link lost to the loss of one more splice).
-func TestJoinsAtReelEnds(t *testing.T) {
-	d := plan.Design{ReelM: 105, WastePct: 5, SlackLoopStructureM: 3}
-	passes := []SplicePoint{{ID: "MH-1", ChannelM: 30}, {ID: "HH-2", ChannelM: 90}, {ID: "J7", Added: true, ChannelM: 150}, {ID: "MH-3", ChannelM: 260}}
-	sp := &geo.Span{ID: "A-1", LengthM: 200}
-	spans := []spanOnChannel{{span: sp, reverse: true, startM: 100}}
-	tk := CableTakeoff{ChannelM: 300, spans: spans, served: "B1"}
-	tk.LengthM, _ = reels(d, tk.ChannelM)
-	tk.Splices, tk.ReelsM = placeJoins(d, passes, spans, tk.ChannelM, tk.LengthM, "B1")
-	tk.Joins, tk.Reels = len(tk.Splices), len(tk.ReelsM)
-	if tk.Joins != 3 {
-		t.Fatalf("joins in structures: %d, want 3", tk.Joins)
-	}
-	alt, fewer := tk.joinsAtReelEnds(d)
-	if !fewer || alt.Joins != 2 || alt.Reels != 3 || !slices.Equal(alt.ReelsM, []float64{105, 105, 105}) || alt.LengthM != 315 {
-		t.Fatalf("at the reels' ends: fewer %v, %d joins, reels %v, bought %.0f m; want 2 joins, 3 reels of 105 m, 315 m", fewer, alt.Joins, alt.ReelsM, alt.LengthM)
-	}
-	for k, p := range alt.Splices {
-		if !p.NoStructure || !p.AtReelEnd || p.ChannelM != float64(100*(k+1)) {
-			t.Errorf("join %d: %+v, want a splice point to build at %d m", k+1, p, 100*(k+1))
+// TestFewestJoins: the one placement of a leg's joins (CableTakeoff.cut) takes the fewest
+// joins the reels allow, a structure wherever that costs no join more, a splice point to build
+// only where none serves. Common practice, no published source (reel and slack figures
+// invented; splice closures kept in maintenance holes and handholes: TIA-758-B, from memory).
+func TestFewestJoins(t *testing.T) {
+	at := func(ps []SplicePoint) []string {
+		var out []string
+		for _, p := range ps {
+			out = append(out, p.Text(func(m float64) string { return strconv.FormatFloat(m, 'f', 1, 64) + " m" }))
 		}
+		return out
 	}
-	if _, fewer := alt.joinsAtReelEnds(d); fewer {
-		t.Error("joins at the reels' ends again: want no change")
+	d := plan.Design{ReelM: 105, WastePct: 5, SlackLoopStructureM: 3} // 100 m of channel a reel
+	// TestPlaceJoins's campus, 300 m: in structures HH-2, J7 and a splice point (3 joins);
+	// three reels of 100 m take 2, at 100 and 200 m, each with a structure passed over.
+	passes := []SplicePoint{{ID: "MH-1", ChannelM: 30}, {ID: "HH-2", ChannelM: 90}, {ID: "J7", Added: true, ChannelM: 150}, {ID: "MH-3", ChannelM: 260}}
+	got := fewestJoins(d, passes, nil, 300, "B1")
+	if want := []string{"no structure: 100.0 m along the cable from B1", "no structure: 200.0 m along the cable from B1"}; !slices.Equal(at(got), want) || !got[0].AtReelEnd || !got[1].AtReelEnd {
+		t.Errorf("300 m: joins %q (%+v), want %q at the reels' ends", at(got), got, want)
+	}
+	// 280 m: still 2 joins, and now J7 (150) serves as the second: from HH-2 (90) or a splice
+	// point at 100, J7 is within reach and 280 − 150 > 100 needs one more; from J7 the last
+	// reel does not reach 280. From a splice point at 100, one at 200 reaches it; from HH-2
+	// at 90 one at 190 does too, and HH-2 needs no splice point: HH-2 and a splice point at 190.
+	got = fewestJoins(d, passes, nil, 280, "B1")
+	if want := []string{"HH-2", "no structure: 190.0 m along the cable from B1"}; !slices.Equal(at(got), want) {
+		t.Errorf("280 m: joins %q, want %q", at(got), want)
+	}
+	// Every structure serves: 250 m with HH-2 at 90 and J7 at 150: 2 joins, both in them.
+	got = fewestJoins(d, passes[:3], nil, 250, "B1")
+	if want := []string{"HH-2", "J7 (handhole to add)"}; !slices.Equal(at(got), want) {
+		t.Errorf("250 m: joins %q, want %q", at(got), want)
+	}
+	// Tester 11 F4 (a 676 m channel on 500 m reels with 5 % waste and 15 m of splicing slack
+	// a cable end: 476.19 m of channel a reel): a handhole 29.5 m from the building and the
+	// next structure at 499.6 m. A join in the handhole leaves the next reel reaching
+	// 29.5 + 476.19 − 30 = 475.7 m (499.5 on its waste): a splice point still, and 2 joins (the
+	// plan before). One splice point 461.19 m out (476.19 − 15) does with one, whichever
+	// order: the fewest joins, or the fewest splice points and then joins.
+	d2 := plan.Design{ReelM: 500, WastePct: 5, SpliceSlackM: 15, SlackLoopStructureM: 3}
+	farm := []SplicePoint{{ID: "J0010", Added: true, ChannelM: 29.5}, {ID: "MH-1", ChannelM: 499.6}}
+	fewer, _ := fewerPoints(d2, farm, nil, 676.1, 710, "FARM")
+	for _, got := range [][]SplicePoint{fewestJoins(d2, farm, nil, 676.1, "FARM"), fewer} {
+		if len(got) != 1 || !got[0].NoStructure || !got[0].AtReelEnd || math.Abs(got[0].ChannelM-(500/1.05-15)) > 1e-9 {
+			t.Errorf("joins %+v, want one splice point at %.2f m", got, 500/1.05-15)
+		}
 	}
 }
 
@@ -80,42 +100,43 @@ func TestJoinsAtReelEnds(t *testing.T) {
 // coiled there with the closure; common practice, no published source: 10–15 m an end, from
 // memory), so a reel reaches splice_slack_m less before a join at its end, 2 × less between
 // two joins, and each reel is cut with the slack of its joined ends. TestPlaceJoins's campus
-// with 5 m of splicing slack: HH-2 (90 m, within 100 − 5), J7 (150 m, within 90 + 100 − 10),
-// then a splice point at 240 m (150 + 100 − 10; MH-3 at 260 m is beyond it and its waste),
-// 60 m into A-1 from its MH-9 end.
+// with 5 m of splicing slack: HH-2 (90 m, within 100 − 5), a splice point at 180 m (90 + 100
+// − 10), 120 m from A-1's MH-9 end, then MH-3 (260 m, within 180 + 100 − 10), one splice
+// point and 3 joins as the fewest placement with a splice point has (J7 at 150 m leaves
+// the next reel short of MH-3: 240 m).
 func TestPlaceJoinsSpliceSlack(t *testing.T) {
 	d := plan.Design{ReelM: 105, WastePct: 5, SlackLoopStructureM: 3, SpliceSlackM: 5}
 	passes := []SplicePoint{{ID: "MH-1", ChannelM: 30}, {ID: "HH-2", ChannelM: 90}, {ID: "J7", Added: true, ChannelM: 150}, {ID: "MH-3", ChannelM: 260}}
 	sp := &geo.Span{ID: "A-1", LengthM: 200}
 	spans := []spanOnChannel{{span: sp, fromEnd: "MH-9", reverse: true, startM: 100}}
-	splices, reelsM := placeJoins(d, passes, spans, 300, 315, "B1")
+	splices, reelsM := fewerPoints(d, passes, spans, 300, 315, "B1")
 	var at []string
 	for _, p := range splices {
 		at = append(at, p.Text(func(m float64) string { return strconv.FormatFloat(m, 'f', 1, 64) + " m" }))
 	}
-	if want := []string{"HH-2", "J7 (handhole to add)", "no structure: on A-1, 60.0 m from the MH-9 end"}; !slices.Equal(at, want) {
+	if want := []string{"HH-2", "no structure: on A-1, 120.0 m from the MH-9 end", "MH-3"}; !slices.Equal(at, want) {
 		t.Errorf("joins at %q, want %q", at, want)
 	}
-	// HH-2 and J7 are structures the cable passes, whose 3 m slack loop is in the channel
+	// HH-2 and MH-3 are structures the cable passes, whose 3 m slack loop is in the channel
 	// (passes' ChannelM): there the 2 × 5 m of the ends' splicing slack is stored instead of
 	// the loop, the larger once (common practice, no published source), 7 m more than the
-	// loop; the splice point at 240 m adds its 10 m. So 90 − 3 + 10 − 5, 60 + 5 − 3 + 10 − 5,
-	// 90 + 5 + 5 and 60 + 5 m with 5 % waste, each up to a whole metre: every reel within its
-	// 105 m.
-	if wantM := []float64{97, 71, 105, 69}; !slices.Equal(reelsM, wantM) {
+	// loop; the splice point at 180 m adds its 10 m. So 90 − 3 + 10 − 5, 90 + 5 + 10 − 5,
+	// 80 + 5 − 3 + 10 − 5 and 40 + 5 m with 5 % waste, each up to a whole metre: every reel
+	// within its 105 m.
+	if wantM := []float64{97, 105, 92, 48}; !slices.Equal(reelsM, wantM) {
 		t.Errorf("reels %v, want %v", reelsM, wantM)
 	}
-	if got := []float64{splices[0].SlackM, splices[1].SlackM, splices[2].SlackM}; !slices.Equal(got, []float64{7, 7, 10}) {
-		t.Errorf("slack the joins add %v m, want [7 7 10] (in structures the larger of 10 and the 3 m loop, once)", got)
+	if got := []float64{splices[0].SlackM, splices[1].SlackM, splices[2].SlackM}; !slices.Equal(got, []float64{7, 10, 7}) {
+		t.Errorf("slack the joins add %v m, want [7 10 7] (in structures the larger of 10 and the 3 m loop, once)", got)
 	}
 	tk := CableTakeoff{ChannelM: 300}
 	if got := tk.setReels(d, splices, reelsM); got != 342 || tk.SpliceSlackM != 24 || tk.ChannelM != 324 || tk.beforeJoinsM() != 300 || tk.SlackM() != 24 {
-		t.Errorf("takeoff: bought %.0f m, splicing slack %.0f m, channel %.0f m, slack %.0f m; want 342, 24 (7 + 7 + 10), 324, 24", got, tk.SpliceSlackM, tk.ChannelM, tk.SlackM())
+		t.Errorf("takeoff: bought %.0f m, splicing slack %.0f m, channel %.0f m, slack %.0f m; want 342, 24 (7 + 10 + 7), 324, 24", got, tk.SpliceSlackM, tk.ChannelM, tk.SlackM())
 	}
 	// Splicing slack below the loop (1 m an end against the 3 m loop): a join in a structure
 	// adds nothing, the loop there holds both ends' 2 m; the splice point still adds its 2 m.
 	d.SpliceSlackM = 1
-	if s1, _ := placeJoins(d, passes, spans, 300, 315, "B1"); len(s1) == 0 || s1[0].NoStructure || s1[0].SlackM != 0 {
+	if s1 := fewestJoins(d, passes, spans, 300, "B1"); len(s1) == 0 || s1[0].NoStructure || s1[0].SlackM != 0 {
 		t.Errorf("1 m an end: first join %+v, want in a structure, adding 0 m", s1)
 	}
 }
@@ -136,10 +157,24 @@ func TestPlaceJoinsCarriedOn(t *testing.T) {
 	}{
 		{"within the reel's waste", 102, []string{"HH-1", "no structure: 202.0 m along the cable from B1"}, []float64{105, 105, 51}},
 		{"on the reel's last metre", 105, []string{"HH-1", "no structure: 205.0 m along the cable from B1"}, []float64{105, 105, 48}},
-		{"beyond the whole reel", 106, []string{"no structure: 100.0 m along the cable from B1", "HH-1", "no structure: 206.0 m along the cable from B1"}, []float64{105, 7, 105, 47}},
+		// Review 14 F6: a join in HH-1 6 m after a splice point at the reel's end was a join
+		// more for no splice point fewer ([105 7 105 47]); the reels' ends take 2.
+		{"beyond the whole reel", 106, []string{"no structure: 100.0 m along the cable from B1", "no structure: 200.0 m along the cable from B1"}, []float64{105, 105, 53}},
 	} {
+		// With the fewest splice points (above) and with the fewest joins alike, 250 m takes 2
+		// joins whatever the structure, in HH-1 when the reel reaches it, never one a few
+		// metres after a splice point.
+		fewest := fewestJoins(d, []SplicePoint{{ID: "HH-1", ChannelM: tc.atM}}, nil, 250, "B1")
+		if len(fewest) != 2 || (tc.atM <= 105) != (fewest[0].ID == "HH-1" && !fewest[0].NoStructure) {
+			t.Errorf("%s: fewest joins %+v, want 2, the first in HH-1 when a whole reel reaches it", tc.name, fewest)
+		}
+		for k := 1; k < len(fewest); k++ {
+			if gap := fewest[k].ChannelM - fewest[k-1].ChannelM; gap < 90 {
+				t.Errorf("%s: fewest joins %.1f m apart: %+v", tc.name, gap, fewest)
+			}
+		}
 		t.Run(tc.name, func(t *testing.T) {
-			splices, reelsM := placeJoins(d, []SplicePoint{{ID: "HH-1", ChannelM: tc.atM}}, nil, 250, 263, "B1")
+			splices, reelsM := fewerPoints(d, []SplicePoint{{ID: "HH-1", ChannelM: tc.atM}}, nil, 250, 263, "B1")
 			var at []string
 			for _, p := range splices {
 				at = append(at, p.Text(func(m float64) string { return strconv.FormatFloat(m, 'f', 1, 64) + " m" }))
@@ -170,17 +205,30 @@ func TestJoinsByLengthWithSlack(t *testing.T) {
 		}
 		for _, x := range []float64{upM - 1, upM, upM + 1} {
 			_, reels := reels(d, x)
-			splices, _ := placeJoins(d, nil, nil, x, 0, "B1")
+			splices, _ := fewerPoints(d, nil, nil, x, 0, "B1")
+			fewest := fewestJoins(d, nil, nil, x, "B1")
 			wantN := n
 			if x > upM {
 				wantN = n + 1
 			}
-			if reels-1 != wantN || len(splices) != wantN {
-				t.Errorf("%.3f m: %d joins by length, %d placed; want %d", x, reels-1, len(splices), wantN)
+			if reels-1 != wantN || len(splices) != wantN || len(fewest) != wantN {
+				t.Errorf("%.3f m: %d joins by length, %d placed, %d fewest; want %d", x, reels-1, len(splices), len(fewest), wantN)
 			}
 		}
 	}
 	if got := spliceSlackM(d, 3); got != 90 {
 		t.Errorf("3 joins' splicing slack: %.0f m, want 90", got)
 	}
+}
+
+// fewestJoins is placeJoins with the fewest joins.
+func fewestJoins(d plan.Design, passes []SplicePoint, spans []spanOnChannel, channelM float64, served string) []SplicePoint {
+	return placeJoins(d, passes, spans, channelM, served, false)
+}
+
+// fewerPoints is placeJoins with the fewest splice points to build, and its reels cut
+// (cutReels; lengthM the one reel without joins).
+func fewerPoints(d plan.Design, passes []SplicePoint, spans []spanOnChannel, channelM, lengthM float64, served string) ([]SplicePoint, []float64) {
+	splices := placeJoins(d, passes, spans, channelM, served, true)
+	return splices, cutReels(d, splices, channelM, lengthM)
 }

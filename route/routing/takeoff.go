@@ -1,6 +1,7 @@
 package routing
 
 import (
+	"cmp"
 	"fmt"
 	"math"
 	"slices"
@@ -39,11 +40,13 @@ type CableTakeoff struct {
 	LengthM  float64 // the length bought: ChannelM + WasteM rounded up to a whole metre; with joins the reels' cuts added up (ReelsM)
 	Reels    int     // reels of at most design.reel_m that LengthM takes
 	Joins    int     // mid-span splices between reels; each strand's path crosses every one
-	// Splices are where the Joins go, in travel order from the served building (placeJoins);
-	// ReelsM the length cut from each reel, in metres (whole metres, with waste, the splicing
-	// slack at its joined ends included), which sum to
-	// LengthM, or with an entrance transition to OutsideLengthM: the joins are then placed and
-	// the reels cut over the outside-plant cable only (cutOutside). One reel without joins.
+	// Splices are where the Joins go, in travel order from the served building (cut: the
+	// fewest joins the reels allow, structures where that costs no join more, or the fewest
+	// splice points to build where that costs less, fillLeg); ReelsM the
+	// length cut from each reel, in metres (whole metres, with waste, the splicing slack at its
+	// joined ends included), which sum to LengthM, or with an entrance transition to
+	// OutsideLengthM: the joins are then placed and the reels cut over the outside-plant cable
+	// only, the inside pieces being other cable. One reel without joins.
 	Splices []SplicePoint
 	ReelsM  []float64
 
@@ -72,9 +75,9 @@ type CableTakeoff struct {
 	InsideRunM   float64
 	InsideCables media.Cables
 
-	// What placing the joins again over the outside cable needs (cutOutside): the structures
+	// What placing the joins again over the outside cable needs (cut): the structures
 	// and spans along the channel, the served building, and the channel metres the inside
-	// pieces take at each end before waste.
+	// pieces take at each end before waste (0 over the whole cable).
 	spans                      []spanOnChannel
 	served                     string
 	insideToChM, insideFromChM float64
@@ -160,10 +163,7 @@ func takeoff(s *site.Site, d plan.Design, leg *Leg, built builtOn) CableTakeoff 
 		served = leg.Link.To
 	}
 	t.spans, t.served = spans, served
-	lengthM, _ := reels(d, t.ChannelM)
-	splices, reelsM := placeJoins(d, passes, spans, t.ChannelM, lengthM, served)
-	t.LengthM = t.setReels(d, splices, reelsM)
-	return t
+	return t.cut(d, 0, 0, false)
 }
 
 // setReels sets the takeoff's mid-span splices and reels (placeJoins' answer; one reel of the
@@ -186,23 +186,56 @@ func (t *CableTakeoff) setReels(d plan.Design, splices []SplicePoint, reelsM []f
 	return sum
 }
 
-// joinsAtReelEnds is t with its mid-span splices at its reels' ends (splice points to build,
-// AtReelEnd) instead of in the last structure before each reel runs out, and true, when that
-// takes fewer joins: the count by length alone that the optimizer's reach assumes (reels,
-// Model.reachM). A designer builds a splice point rather than lose a link to the join that
-// placing every splice in a structure adds; fillLeg asks for it only when the loss budget
-// fails with the joins in structures.
-func (t CableTakeoff) joinsAtReelEnds(d plan.Design) (CableTakeoff, bool) {
-	lengthM, _ := reels(d, t.beforeJoinsM())
-	splices, reelsM := placeJoins(d, nil, t.spans, t.beforeJoinsM(), lengthM, t.served)
-	if len(splices) >= t.Joins {
-		return t, false
+// cut is t with its mid-span joins placed and its reels cut over the cable between insideToChM
+// metres of channel from the served building's end and insideFromChM metres before the other
+// (the outside-plant cable between an entrance transition's splices; 0 and 0, the whole cable,
+// without a transition: the inside pieces are other cable, cut from other reels), with the
+// fewest joins the reels allow, or with fewerPoints the fewest splice points to build
+// (placeJoins). It is the one placement of a leg's joins: the medium choice (fillLeg, which
+// keeps the fewer splice points where they cost less), the loss budget, the cable schedule,
+// the cut list and the bill read it, and the optimizer's reach counts the joins the same
+// length takes (reels, joinsUpToM, over the outside cable of a transition laying,
+// Model.reachWithJoinsM). Splices keep their places along the whole channel; ReelsM are the
+// cable's between the two points, and LengthM their sum (Fit adds the inside pieces).
+func (t CableTakeoff) cut(d plan.Design, insideToChM, insideFromChM float64, fewerPoints bool) CableTakeoff {
+	beforeM := t.beforeJoinsM()
+	startM := min(max(insideToChM, 0), beforeM)
+	outM := max(beforeM-startM-max(insideFromChM, 0), 0)
+	t.insideToChM, t.insideFromChM = startM, beforeM-startM-outM
+	passes, spans := t.Passed, t.spans // the whole cable: as they are
+	if startM > 0 || outM < beforeM {
+		passes = nil
+		for _, p := range t.Passed {
+			if p.ChannelM > startM && p.ChannelM < startM+outM {
+				p.ChannelM -= startM
+				passes = append(passes, p)
+			}
+		}
+		spans = make([]spanOnChannel, len(t.spans))
+		for i, sc := range t.spans {
+			sc.startM -= startM
+			spans[i] = sc
+		}
 	}
+	lengthM, _ := reels(d, outM)
+	splices := placeJoins(d, passes, spans, outM, t.served, fewerPoints)
+	reelsM := cutReels(d, splices, outM, lengthM)
 	for i := range splices {
-		splices[i].AtReelEnd = true
+		splices[i].ChannelM += startM
 	}
 	t.LengthM = t.setReels(d, splices, reelsM)
-	return t, true
+	return t
+}
+
+// SplicePoints is the splice points to build among the takeoff's joins (NoStructure).
+func (t CableTakeoff) SplicePoints() int {
+	n := 0
+	for _, p := range t.Splices {
+		if p.NoStructure {
+			n++
+		}
+	}
+	return n
 }
 
 // SplicePoint is a place along a leg: a structure by its ID (a junction's, for a handhole the
@@ -219,8 +252,8 @@ type SplicePoint struct {
 	Added       bool
 	NoStructure bool
 	// AtReelEnd marks a NoStructure splice placed at its reel's end although a structure
-	// before it could take it (joinsAtReelEnds): there the leg would need a join more than its
-	// length does, and the loss budget would not close.
+	// before it could take it (placeJoins): there the leg would need a join more than its
+	// length does.
 	AtReelEnd bool
 	// ChannelM is where it is along the channel, in metres from the served building's end of
 	// the cable (its riser, coil and entrance loop first), the splicing slack at joins before
@@ -423,55 +456,141 @@ func locate(spans []spanOnChannel, loopM, atM float64) (string, float64, string,
 
 // placeJoins places the mid-span splices of a channel channelM metres long (before the
 // splicing slack of its joins, CableTakeoff.beforeJoinsM) whose structures passed are passes
-// (passesOf, in travel order) and cuts its reels: a reel of design.reel_m carries reel_m / (1 +
-// waste_pct/100) metres of channel (the waste spread over its length), the splicing slack at its
-// joined ends included (design.splice_slack_m each: a reel between two joins carries twice that
-// less of the route). Each join goes in the last structure passed at or before where its reel
-// runs out (a splice closure is stored in a maintenance hole or handhole with its slack:
-// TIA-758-B, from memory), the next reel starting there. Where none lies within a reel's reach,
-// the join goes in the first structure passed beyond it that the reel's whole length reaches,
-// its waste spent (that piece cut to the whole reel): a crew carries the reel on to a
-// structure rather than build a splice point a few metres short of it, where the next reel
-// would be joined again (review 12b: 0.8 m apart on reels of 120 m; common practice, no
-// published source). Failing that, the join is at its reel's end, NoStructure, by its
-// distance along the cable from the served building. Each reel is cut to its channel with waste in whole metres
-// (ReelsM), at most reel_m; without joins the one reel is lengthM. So the joins, which the
-// bill counts and the loss budget takes as splices, are the placed ones: as many as
-// reels(channelM) gives by length, or more where structures are far apart.
-func placeJoins(d plan.Design, passes []SplicePoint, spans []spanOnChannel, channelM, lengthM float64, served string) (splices []SplicePoint, reelsM []float64) {
+// (passesOf, in travel order, ChannelM along this channel). A reel of design.reel_m carries
+// reel_m / (1 + waste_pct/100) metres of channel (the waste spread over its length), the
+// splicing slack at its joined ends included (design.splice_slack_m each: a reel between two
+// joins carries twice that less of the route), or its whole length when carried on to a
+// structure just beyond that on its waste (the piece cut to the whole reel: a crew carries the
+// reel on to a structure rather than build a splice point a few metres short of it; common
+// practice, no published source). A join goes in a structure passed (a splice closure is
+// stored in a maintenance hole or handhole with its slack: TIA-758-B, from memory) or, where
+// none serves, at its reel's end (NoStructure: a splice point to build, on its span, or off the
+// spans by its distance along the cable from the served building; AtReelEnd when a structure
+// within that reel's reach was passed over).
+//
+// With fewerPoints false it takes the fewest joins the reels allow, and among placements
+// with that many the fewest splice points to build: without structures as many joins as
+// reels(channelM) by length, at the reels' ends. With fewerPoints true the fewest splice
+// points to build, and among placements with that many the fewest joins, which can be more
+// than the length alone takes where structures are far apart. Either way a join is never put
+// a few metres after a splice point in a structure the reel could have been carried past
+// (review 14 F6), nor in a structure near the building when the next reel would still need a
+// splice point that one join farther on does without (tester 11 F4). Ties go to the placement
+// whose last join is farthest on. Common practice, no published source.
+//
+// It works by joins: the places a cable with k joins can have its k-th join, each with the
+// fewest splice points to get there, a place kept only when no place farther on needs as few
+// (from farther on a reel never reaches less far); the first k from whose places the last
+// reel reaches the end wins (fewest joins), or the k whose finish needs the fewest splice
+// points, once no place left can do with fewer (fewer points).
+func placeJoins(d plan.Design, passes []SplicePoint, spans []spanOnChannel, channelM float64, served string, fewerPoints bool) []SplicePoint {
 	if d.ReelM <= 0 {
-		return nil, []float64{lengthM}
+		return nil
 	}
 	capM := reelCarriesM(d)
 	slackM := d.SpliceSlackM
-	overM := d.ReelM - capM  // a reel's waste
-	start, headM := 0.0, 0.0 // where the reel starts, and the splicing slack at its start
-	for channelM-start+headM > capM+1e-9 {
-		endM := start + capM - headM - slackM // the farthest its join may be: the reel's end
-		best := -1
-		for i := range passes {
-			if at := passes[i].ChannelM; at > start+1e-9 && at <= endM+1e-9 {
-				best = i
-			}
-		}
-		if best < 0 {
-			if i := slices.IndexFunc(passes, func(p SplicePoint) bool { return p.ChannelM > endM+1e-9 }); i >= 0 && passes[i].ChannelM <= endM+overM+1e-9 {
-				best = i
-			}
-		}
-		p := SplicePoint{ID: served, NoStructure: true, ChannelM: endM}
-		if best >= 0 {
-			p = passes[best]
-		} else if id, m, end, ok := locate(spans, d.SlackLoopStructureM, p.ChannelM); ok {
-			p.Span, p.AtM, p.End = id, m, end
-		}
-		p.SlackM = joinSlackM(d, !p.NoStructure)
-		splices = append(splices, p)
-		start, headM = p.ChannelM, slackM
+	overM := d.ReelM - capM // a reel's waste
+	type place struct {
+		atM     float64
+		pass    int  // index into passes, -1 for a splice point to build
+		passed  bool // a splice point with a structure within its reel's reach passed over
+		points  int  // splice points to build up to and including this one
+		parent  int  // index into places, -1 for the cable's start
+		isStart bool
 	}
+	places := []place{{isStart: true, pass: -1, parent: -1}}
+	layer := []int{0}
+	headOf := func(p place) float64 {
+		if p.isStart {
+			return 0
+		}
+		return slackM
+	}
+	path := func(last int) []SplicePoint {
+		var out []SplicePoint
+		for i := last; !places[i].isStart; i = places[i].parent {
+			p := places[i]
+			sp := SplicePoint{ID: served, NoStructure: true, AtReelEnd: p.passed, ChannelM: p.atM}
+			if p.pass >= 0 {
+				sp = passes[p.pass]
+			} else if id, m, end, ok := locate(spans, d.SlackLoopStructureM, p.atM); ok {
+				sp.Span, sp.AtM, sp.End = id, m, end
+			}
+			sp.SlackM = joinSlackM(d, !sp.NoStructure)
+			out = append(out, sp)
+		}
+		slices.Reverse(out)
+		return out
+	}
+	done := -1 // the best finish so far (fewerPoints)
+	for len(layer) > 0 {
+		best, least := -1, math.MaxInt
+		for _, i := range layer {
+			p := places[i]
+			least = min(least, p.points)
+			if channelM-p.atM+headOf(p) <= capM+1e-9 && (best < 0 || p.points < places[best].points || p.points == places[best].points && p.atM > places[best].atM) {
+				best = i
+			}
+		}
+		if best >= 0 && (done < 0 || places[best].points < places[done].points) {
+			done = best
+		}
+		if done >= 0 && (!fewerPoints || places[done].points <= least) {
+			return path(done)
+		}
+		// The next join's places from each of this layer's: every structure its reel reaches
+		// (on its waste too), and its reel's end.
+		var next []place
+		for _, i := range layer {
+			p := places[i]
+			endM := p.atM + capM - headOf(p) - slackM
+			within := false
+			for j := range passes {
+				at := passes[j].ChannelM
+				if at <= p.atM+1e-9 || at > endM+overM+1e-9 {
+					continue
+				}
+				within = within || at <= endM+1e-9
+				next = append(next, place{atM: at, pass: j, points: p.points, parent: i})
+			}
+			next = append(next, place{atM: endM, pass: -1, passed: within, points: p.points + 1, parent: i})
+		}
+		// Keep, farthest first, a place only when it needs fewer splice points than every
+		// place farther on (ties: a structure before a splice point, then the farthest parent).
+		slices.SortStableFunc(next, func(a, b place) int {
+			switch {
+			case a.atM != b.atM:
+				return cmp.Compare(b.atM, a.atM)
+			case a.points != b.points:
+				return a.points - b.points
+			case a.pass != b.pass:
+				return b.pass - a.pass
+			}
+			return cmp.Compare(places[b.parent].atM, places[a.parent].atM)
+		})
+		layer = layer[:0]
+		fewest := math.MaxInt
+		for _, p := range next {
+			if p.points < fewest {
+				fewest = p.points
+				places = append(places, p)
+				layer = append(layer, len(places)-1)
+			}
+		}
+	}
+	return nil
+}
+
+// cutReels cuts the reels of a channel channelM metres long (before the splicing slack of its
+// joins) joined at splices: each piece between two joins with the splicing slack of its joined
+// ends and the design's waste, up to a whole metre, at most design.reel_m (a piece carried on
+// to a structure on its reel's waste is cut to the whole reel); without joins the one reel is
+// lengthM.
+func cutReels(d plan.Design, splices []SplicePoint, channelM, lengthM float64) (reelsM []float64) {
 	if len(splices) == 0 {
-		return nil, []float64{lengthM}
+		return []float64{lengthM}
 	}
+	slackM := d.SpliceSlackM
 	prev, headM := 0.0, 0.0
 	for i, p := range append(slices.Clone(splices), SplicePoint{ChannelM: channelM}) {
 		// A reel starts with the splicing slack of its joined head end and ends with what its
@@ -488,7 +607,7 @@ func placeJoins(d plan.Design, passes []SplicePoint, spans []spanOnChannel, chan
 		reelsM = append(reelsM, cutM)
 		prev, headM = p.ChannelM, slackM
 	}
-	return splices, reelsM
+	return reelsM
 }
 
 // reelCarriesM is the channel a reel of design.reel_m carries, in metres: reel_m / (1 +
@@ -507,8 +626,10 @@ func reelCarriesM(d plan.Design) float64 {
 // waste, rounded up to a whole metre) and the reels of at most design.reel_m it takes by length
 // alone, each join adding its splicing slack (spliceSlackM): the mid-span splices (reels − 1)
 // the optimizer's reach counts for a channel that long (Model.reachM). A routed leg's joins are
-// placed at its structures (placeJoins), which can take more where they are far apart; the rule
-// engine then decides on those.
+// placed with as many (placeJoins with the fewest joins: TestJoinsByLengthWithSlack), or fewer
+// where a reel carried on to a structure on its waste spares one; the fewest splice points to
+// build can take more where structures are far apart, which fillLeg keeps only where that costs
+// less and the loss budget closes.
 func reels(d plan.Design, channelM float64) (lengthM float64, n int) {
 	lengthM = math.Ceil(channelM + channelM*d.WastePct/100 - 1e-9)
 	n = 1
@@ -554,53 +675,17 @@ func (t *CableTakeoff) Fit(ch media.Choice, wastePct float64) {
 	if ch.Inside != "" {
 		t.InsideCables = ch.InsideCables
 		t.InsideRunM, t.InsideEnds = ch.InsideM, ch.InsideAt.Count()
-		to, from := ch.InsideAM, ch.InsideBM
-		t.insideToChM, t.insideFromChM = to, from
 		piece := func(m float64) float64 { return math.Ceil(m*(1+wastePct/100) - 1e-9) }
-		t.InsideToM = math.Min(t.LengthM, piece(to))
-		t.InsideFromM = math.Min(t.LengthM-t.InsideToM, piece(from))
+		wholeM := piece(t.ChannelM) // the whole cable in one length
+		t.InsideToM = math.Min(wholeM, piece(ch.InsideAM))
+		t.InsideFromM = math.Min(wholeM-t.InsideToM, piece(ch.InsideBM))
 		t.InsideLengthM = t.InsideToM + t.InsideFromM
-	}
-}
-
-// cutOutside places the joins and cuts the reels of a leg with an entrance transition over its
-// outside-plant cable only, after Fit: that cable runs between the transition splices (or
-// from one to the telecom room at an end without a transition), and the inside pieces are
-// other cable from other reels, so a reel starts at the served building's transition
-// (insideToChM along the channel, 0 without one there) and the last ends at the
-// cross-connect's (or its telecom room). Splices keep their places along the whole channel; ReelsM is then the
-// outside cable's reels (summing to OutsideLengthM), and LengthM the outside reels plus the
-// inside pieces. It returns whether the joins changed. Without a transition it does nothing.
-func (t *CableTakeoff) cutOutside(d plan.Design) bool {
-	if t.InsideLengthM == 0 {
-		return false
-	}
-	if t.Joins == 0 { // no joins over the whole cable, none over a part: one reel, the outside cut
-		t.ReelsM = []float64{t.LengthM - t.InsideLengthM}
-		return false
-	}
-	startM, outM := t.insideToChM, t.beforeJoinsM()-t.insideToChM-t.insideFromChM
-	if outM <= 0 {
-		return false
-	}
-	var passes []SplicePoint
-	for _, p := range t.Passed {
-		if p.ChannelM > startM && p.ChannelM < startM+outM {
-			p.ChannelM -= startM
-			passes = append(passes, p)
+		if t.Joins == 0 { // one outside reel: what the inside pieces leave of the whole length
+			t.ReelsM = []float64{wholeM - t.InsideLengthM}
 		}
 	}
-	spans := make([]spanOnChannel, len(t.spans))
-	for i, sc := range t.spans {
-		sc.startM -= startM
-		spans[i] = sc
+	t.LengthM = t.InsideLengthM
+	for _, m := range t.ReelsM {
+		t.LengthM += m
 	}
-	lengthM, _ := reels(d, outM)
-	splices, reelsM := placeJoins(d, passes, spans, outM, lengthM, t.served)
-	for i := range splices {
-		splices[i].ChannelM += startM
-	}
-	changed := len(splices) != t.Joins
-	t.LengthM = t.InsideLengthM + t.setReels(d, splices, reelsM)
-	return changed
 }
