@@ -1,7 +1,6 @@
 package route_test
 
 import (
-	"fmt"
 	"strings"
 	"testing"
 
@@ -24,14 +23,7 @@ import (
 // entrance prices B's inside cable over the tunnel too, as the bill does.
 func TestTunnelIntoBuildingOneCostModel(t *testing.T) {
 	t.Parallel()
-	building := func(id, role string, x0, x1 float64) string {
-		r := ""
-		if role != "" {
-			r = fmt.Sprintf(`,"role":%q`, role)
-		}
-		return fmt.Sprintf(`{"type":"Feature","properties":{"kind":"building","id":%q,"riser_m":2%s},"geometry":{"type":"Polygon","coordinates":[[[%.7f,%.7f],[%.7f,%.7f],[%.7f,%.7f],[%.7f,%.7f],[%.7f,%.7f]]]}}`,
-			id, r, testsite.X(x0), testsite.Y(15), testsite.X(x1), testsite.Y(15), testsite.X(x1), testsite.Y(35), testsite.X(x0), testsite.Y(35), testsite.X(x0), testsite.Y(15))
-	}
+	building := testsite.Long
 	campus := func(buriedM float64) string {
 		f := []string{building("A", "mc", 0, 20), building("B", "", 200, 300), testsite.Pathway("T", "tunnel", 20+buriedM, 25, 290, 25)}
 		if buriedM > 0 {

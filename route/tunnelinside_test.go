@@ -1,7 +1,6 @@
 package route_test
 
 import (
-	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -27,14 +26,7 @@ import (
 // and a 5.00 enclosure as TestEntranceTransitionOneEnd has them.
 func TestTunnelIntoBuildingCountsInside(t *testing.T) {
 	t.Parallel()
-	building := func(id, role string, x0, x1 float64) string {
-		r := ""
-		if role != "" {
-			r = fmt.Sprintf(`,"role":%q`, role)
-		}
-		return fmt.Sprintf(`{"type":"Feature","properties":{"kind":"building","id":%q,"riser_m":2%s},"geometry":{"type":"Polygon","coordinates":[[[%.7f,%.7f],[%.7f,%.7f],[%.7f,%.7f],[%.7f,%.7f],[%.7f,%.7f]]]}}`,
-			id, r, testsite.X(x0), testsite.Y(15), testsite.X(x1), testsite.Y(15), testsite.X(x1), testsite.Y(35), testsite.X(x0), testsite.Y(35), testsite.X(x0), testsite.Y(15))
-	}
+	building := testsite.Long
 	campus := func(endX float64) string {
 		f := []string{building("A", "mc", 0, 20), building("B", "", 200, 300), testsite.Pathway("T", "tunnel", 20, 25, endX, 25)}
 		return `{"type":"FeatureCollection","features":[` + strings.Join(f, ",") + `]}`

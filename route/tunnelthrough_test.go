@@ -1,7 +1,6 @@
 package route_test
 
 import (
-	"fmt"
 	"slices"
 	"strings"
 	"testing"
@@ -17,14 +16,7 @@ import (
 // pass through it where the tunnel meets those entrances). Each building's riser is 2 m, so the ends hold 10 m of cable inside with the
 // service coil and entrance loop: within 15 m.
 func tunnelUnderCampus(widthM float64) string {
-	building := func(id, role string, x0, x1 float64) string {
-		r := ""
-		if role != "" {
-			r = fmt.Sprintf(`,"role":%q`, role)
-		}
-		return fmt.Sprintf(`{"type":"Feature","properties":{"kind":"building","id":%q,"riser_m":2%s},"geometry":{"type":"Polygon","coordinates":[[[%.7f,%.7f],[%.7f,%.7f],[%.7f,%.7f],[%.7f,%.7f],[%.7f,%.7f]]]}}`,
-			id, r, testsite.X(x0), testsite.Y(15), testsite.X(x1), testsite.Y(15), testsite.X(x1), testsite.Y(35), testsite.X(x0), testsite.Y(35), testsite.X(x0), testsite.Y(15))
-	}
+	building := testsite.Long
 	m := strings.Replace(building("M", "", 90-widthM/2, 90+widthM/2), `"riser_m":2`, `"riser_m":2,"transit":true`, 1)
 	f := []string{building("A", "mc", 0, 20), m, building("B", "", 200, 220),
 		testsite.Pathway("T", "tunnel", 20, 25, 200, 25)}

@@ -224,6 +224,17 @@ func Box(id, role string, x, y float64) string {
 		id, r, X(x-10), Y(y-10), X(x+10), Y(y-10), X(x+10), Y(y+10), X(x-10), Y(y+10), X(x-10), Y(y-10))
 }
 
+// Long is a building from x0 to x1 and 15 to 35 m of the pull grid, with a 2 m riser, as a
+// GeoJSON feature: a building long enough for a tunnel to run inside it.
+func Long(id, role string, x0, x1 float64) string {
+	r := ""
+	if role != "" {
+		r = fmt.Sprintf(`,"role":%q`, role)
+	}
+	return fmt.Sprintf(`{"type":"Feature","properties":{"kind":"building","id":%q,"riser_m":2%s},"geometry":{"type":"Polygon","coordinates":[[[%.7f,%.7f],[%.7f,%.7f],[%.7f,%.7f],[%.7f,%.7f],[%.7f,%.7f]]]}}`,
+		id, r, X(x0), Y(15), X(x1), Y(15), X(x1), Y(35), X(x0), Y(35), X(x0), Y(15))
+}
+
 // Pathway is a pathway of type typ through points of the pull grid (x, y in metres), as a
 // GeoJSON feature.
 func Pathway(id, typ string, pts ...float64) string { return fanWay(id, typ, "", fanLine(pts...)) }
