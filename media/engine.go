@@ -809,6 +809,14 @@ func (e *Engine) ChooseLaid(l Link, medium string, lay Laying) Choice {
 	return ch
 }
 
+// ChooseAt is Choose among the candidates laid with an entrance transition at the ends at
+// alone (EndsNone: none): a caller whose facts hold the reel joins of the cable those layings
+// buy (routing's fillLeg: a transition's outside cable takes fewer than the whole) judges them
+// on their own cable. Not remembered.
+func (e *Engine) ChooseAt(l Link, at Ends) Choice {
+	return e.chooseAmong(l, func(_ *Medium, k *Construction, v variant) bool { return layingOf(k, v).At == at })
+}
+
 func (e *Engine) choose(l Link) Choice { return e.chooseAmong(l, nil) }
 
 // chooseAmong is choose among the candidates keep keeps (all when nil).

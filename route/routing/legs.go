@@ -352,8 +352,15 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 		}
 	}
 	slices.SortStableFunc(cuts, func(a, b CableTakeoff) int { return b.Joins - a.Joins })
-	var ch, first media.Choice
-	var firstFacts media.Link
+	// A choice stands only as judged on its own laying's cable: the count of joins and the
+	// slack of the placement that laying buys (review 15 F0, F1: a laying chosen on another
+	// cut was reported feasible on a budget of fewer joins, or a few metres less channel, than
+	// the cable it bought). A choice made on another cut is measured again on its own
+	// (media.Engine.ChooseLaid); the first that closes there stands, in the order of the cuts
+	// (most joins first). When none does, each way of laying the ends is judged on its own
+	// cut alone (media.Engine.ChooseAt), and the cheapest that closes stands.
+	sameCut := func(a, b CableTakeoff) bool { return a.Joins == b.Joins && a.SlackM() == b.SlackM() }
+	var ch media.Choice
 	settled := false
 	for k, t := range cuts {
 		f := withCable(facts, t)
@@ -364,30 +371,36 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 		if !c.Feasible {
 			continue
 		}
-		if mine := own(c, false); mine.Joins == t.Joins {
+		mine := own(c, false)
+		if sameCut(mine, t) {
 			ch, leg.Cable, facts, settled = c, mine, f, true
 			break
 		}
-		if !first.Feasible {
-			first, firstFacts = c, f
+		fm := withCable(facts, mine)
+		if again := cm.eng.ChooseLaid(fm, c.Medium, media.Laying{Construction: c.Construction, Inside: c.Inside, At: c.InsideAt}); again.Feasible {
+			again.Rejected, again.Code = c.Rejected, c.Code
+			again.Reason = fmt.Sprintf("%s; measured on its own cable (%d mid-span joins, %s m of channel; it was chosen on %d joins): %s, %s",
+				c.Reason, mine.Joins, strconv.FormatFloat(mine.ChannelM, 'f', 2, 64), t.Joins, again.Application, lossText(again.Losses))
+			ch, leg.Cable, facts, settled = again, mine, fm, true
+			break
 		}
 	}
-	if !settled && first.Feasible {
-		// The engine chose a transition on a count of joins above its outside cable's, and on
-		// that cable's count chose a laying whose cable takes more (one that count flattered):
-		// the first choice stands, and its laying is measured again on its outside cable's own
-		// joins (media.Engine.ChooseLaid), which are fewer, so it closes.
-		mine := own(first, false)
-		f := withCable(facts, mine)
-		if again := cm.eng.ChooseLaid(f, first.Medium, media.Laying{Construction: first.Construction, Inside: first.Inside, At: first.InsideAt}); again.Feasible {
-			again.Rejected, again.Code = first.Rejected, first.Code
-			again.Reason = fmt.Sprintf("%s; measured on the %d mid-span joins of its outside cable (it was chosen on %d): %s, %s",
-				first.Reason, mine.Joins, firstFacts.Splices-splices, again.Application, lossText(again.Losses))
-			ch, leg.Cable, facts = again, mine, f
-		} else {
-			// Fewer joins and a shorter channel close whatever the longer closed; should a
-			// rule think otherwise, the choice stands as judged, its reels the outside cable's.
-			ch, leg.Cable = first, mine
+	if !settled {
+		var best media.Choice
+		var bestCut CableTakeoff
+		var bestFacts media.Link
+		for _, at := range []media.Ends{media.EndsNone, media.EndA, media.EndB, media.EndsBoth} {
+			t := whole
+			if at != media.EndsNone {
+				t = cutFor(at, facts.InsideAM, facts.InsideBM, false)
+			}
+			f := withCable(facts, t)
+			if c := cm.eng.ChooseAt(f, at); c.Feasible && (!best.Feasible || c.CostCents < best.CostCents) {
+				best, bestCut, bestFacts = c, t, f
+			}
+		}
+		if best.Feasible {
+			ch, leg.Cable, facts = best, bestCut, bestFacts
 		}
 	}
 	leg.Rejected = ch.Rejected
