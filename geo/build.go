@@ -727,12 +727,22 @@ func (b *builder) target(seg int, t float64) int {
 			break
 		}
 	}
+	if v >= 0 {
+		m := p.v0 + v
+		b.mem[m].force = true
+		return m
+	}
+	return b.placeAt(seg, t)
+}
+
+// placeAt turns a place on a pathway into a member that must become a junction there: the
+// vertex at t 0 or 1, else a split point (the one another entrance's lateral made there).
+func (b *builder) placeAt(seg int, t float64) int {
+	sr := b.segs[seg]
 	var m int
 	switch {
-	case v >= 0:
-		m = p.v0 + v
 	case t == 0 || t == 1: // a vertex that marks nothing: it, not a split on it
-		m = p.v0 + sr.i + int(t)
+		m = b.parts[sr.part].v0 + sr.i + int(t)
 	default:
 		m = -1
 		for _, o := range b.splits[sr.part] {
@@ -956,7 +966,25 @@ func (b *builder) placeTaps() {
 			}
 		})
 		if best < 0 {
-			best = b.target(q.seg, q.t)
+			// As target: the nearest vertex within SnapM along the run that marks a place on
+			// it, so that no span shorter than SnapM is cut off, but not a plain joint on a
+			// straight run, which the run drawn as one line does not have.
+			snapD := math.Inf(1)
+			b.alongRun(sr.part, at, b.snap, ends, plain, func(pi int, dist func(float64) float64) {
+				pp := &b.parts[pi]
+				for v := range pp.xy {
+					m, d := pp.v0+v, math.Round(dist(pp.cum[v])*1e6)/1e6
+					if d > b.snap || !b.marks(pp, v) || b.straightJoint(b.find(m), ends, plain) {
+						continue
+					}
+					if best < 0 || d < snapD || d == snapD && lessLL(b.mem[m].ll, b.mem[best].ll) {
+						best, snapD = m, d
+					}
+				}
+			})
+			if best < 0 {
+				best = b.placeAt(q.seg, q.t)
+			}
 		}
 		b.mem[best].force = true
 		b.doors[q.bi][q.door].target = best
@@ -1009,6 +1037,28 @@ func (b *builder) alongRun(pi int, along, withinM float64, ends map[int][]int, p
 			cur = next
 		}
 	}
+}
+
+// straightJoint reports whether root r is a plain joint (two pieces of one run meeting end
+// to end, plain) where the run goes straight on: the joint lies within BendToleranceM of the
+// chord between the kept vertices next to it on either piece, so the run drawn as one line
+// would have no bend there (markKept's test, on the nearest kept vertices only).
+func (b *builder) straightJoint(r int, ends map[int][]int, plain func(r int) bool) bool {
+	if !plain(r) {
+		return false
+	}
+	var near [2]vec
+	var at vec
+	for i, pi := range ends[r][:2] {
+		p := &b.parts[pi]
+		if b.find(p.v0) == r {
+			at, near[i] = p.xy[0], p.xy[p.kept[1]]
+		} else {
+			at, near[i] = p.xy[len(p.xy)-1], p.xy[p.kept[len(p.kept)-2]]
+		}
+	}
+	_, d2 := closestOnSeg(at, near[0], near[1])
+	return d2 <= BendToleranceM*BendToleranceM
 }
 
 // nearFootprint reports whether xy lies in a footprint or within SnapM of one.

@@ -232,3 +232,87 @@ func numbered(n *Network) []string {
 	}
 	return out
 }
+
+// TestTapSplitAnywhere: B's counted lateral taps the street S below its middle (0, 0), and K's
+// drawn lateral tees off at branchX, within or beyond the 2 m of tapMergeM (common practice,
+// no published source). S drawn split at one or two points (as two or three pathways, the
+// middle one drawn the other way, or as one pathway of as many lines) gives B the same tap
+// and lateral and the network the same numbered junctions as S drawn whole.
+func TestTapSplitAnywhere(t *testing.T) {
+	t.Parallel()
+	campus := func(street []Pathway, branchX float64) *Campus {
+		c := Campus{Buildings: []Building{box("B", 0, 28, 10), box("K", branchX, -25, 5)},
+			Pathways: append(street, pw("L-K", ml(branchX, 0, branchX, -20)))}
+		for i := range c.Pathways[:len(street)] {
+			c.Pathways[i].Group = "G"
+		}
+		return &c
+	}
+	// pieces draws S from -100 to 100 cut at cuts (ascending), every other piece reversed.
+	pieces := func(cuts []float64) []orb.LineString {
+		xs := append(append([]float64{-100}, cuts...), 100)
+		var out []orb.LineString
+		for i := 0; i+1 < len(xs); i++ {
+			a, b := xs[i], xs[i+1]
+			if i%2 == 1 {
+				a, b = b, a
+			}
+			out = append(out, ml(a, 0, b, 0))
+		}
+		return out
+	}
+	for _, branchX := range []float64{-1.9, -1.2, 0.9, 1.5, 1.99, 2.3, 3} {
+		whole := campus([]Pathway{pw("S", ml(-100, 0, 100, 0))}, branchX)
+		n0, e0, _ := buildOneLateral(t, whole, Options{})
+		want, wantJ := entryPoints(t, n0, "B"), numbered(n0)
+		for _, cuts := range [][]float64{{-2.5}, {-1.0}, {-0.3}, {0.3}, {0.6}, {1.0}, {2.2}, {-1, 0.7}, {0.4, 1.1}, {-2.2, 2.2}} {
+			if slices.ContainsFunc(cuts, func(x float64) bool { return math.Abs(x-branchX) <= 2*DefaultSnapM }) {
+				continue // a joint within snap_m of the tee is noded into it: another drawing
+			}
+			lines := pieces(cuts)
+			var apart []Pathway
+			for i, l := range lines {
+				apart = append(apart, pw(fmt.Sprintf("S%d", i+1), l))
+			}
+			for _, street := range [][]Pathway{apart, {pw("S", lines...)}} {
+				name := fmt.Sprintf("tee at %g, cuts %v, %d pathways", branchX, cuts, len(street))
+				n, e, _ := buildOneLateral(t, campus(street, branchX), Options{})
+				if got := entryPoints(t, n, "B"); !slices.Equal(got, want) {
+					t.Errorf("%s: B's entrances %+v; want %+v, as drawn whole", name, got, want)
+				}
+				if math.Abs(e.LateralM-e0.LateralM) > 1e-6 {
+					t.Errorf("%s: B's lateral %.6f m; want %.6f", name, e.LateralM, e0.LateralM)
+				}
+				if got := numbered(n); !slices.Equal(got, wantJ) {
+					t.Errorf("%s: numbered junctions %v; want %v", name, got, wantJ)
+				}
+			}
+		}
+	}
+}
+
+// TestTapSnapsToBendAcrossJoint: B's tap place (0, 0) lies 0.3 m from where the street S
+// bends (it turns 5.7° there, away from B, 10 m over 100 m: a mark on the line); the tap takes the
+// bend, as it takes a vertex within snap_m that marks a place (no span shorter than SnapM is
+// cut off), whether S is drawn as one line or split at the bend into two pathways, which
+// meet there on no straight run.
+func TestTapSnapsToBendAcrossJoint(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		name   string
+		street []Pathway
+	}{
+		{"one line", []Pathway{pw("S", ml(-100, 0, 0.3, 0, 100, -10))}},
+		{"two pathways", []Pathway{pw("S1", ml(-100, 0, 0.3, 0)), pw("S2", ml(0.3, 0, 100, -10))}},
+		{"two pathways, the second drawn the other way", []Pathway{pw("S1", ml(-100, 0, 0.3, 0)), pw("S2", ml(100, -10, 0.3, 0))}},
+	} {
+		c := Campus{Buildings: []Building{box("B", 0, 28, 10)}, Pathways: tc.street}
+		for i := range c.Pathways {
+			c.Pathways[i].Group = "G"
+		}
+		_, _, j := buildOneLateral(t, &c, Options{})
+		if d := DistanceM(j.Point, at(0.3, 0)); d > 0.01 {
+			t.Errorf("%s: B taps at %v, %.2f m from the bend; want the bend", tc.name, j.Point, d)
+		}
+	}
+}
