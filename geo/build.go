@@ -56,8 +56,8 @@ const minCellM = 25.0
 //     used instead, so short spans are not cut off); the lateral runs from the nearest point of
 //     the footprint boundary. The nearest point of a pathway of the other status (existing,
 //     proposed) within MaxLateralM is an entrance too, by a lateral of its own. A counted
-//     lateral's tap within tapMergeM along its pathway of a junction already there moves to
-//     it (placeTaps).
+//     lateral's tap within tapMergeM along the run (across joints where pieces of the same
+//     ducts meet end to end) of a junction already there moves to it (placeTaps).
 //
 // A building with none of these has no Access and no Entrances: it is listed in Unjoined
 // with the ErrUnreachable *input.Problem that says why, and the rest of the network is built
@@ -727,12 +727,22 @@ func (b *builder) target(seg int, t float64) int {
 			break
 		}
 	}
+	if v >= 0 {
+		m := p.v0 + v
+		b.mem[m].force = true
+		return m
+	}
+	return b.placeAt(seg, t)
+}
+
+// placeAt turns a place on a pathway into a member that must become a junction there: the
+// vertex at t 0 or 1, else a split point (the one another entrance's lateral made there).
+func (b *builder) placeAt(seg int, t float64) int {
+	sr := b.segs[seg]
 	var m int
 	switch {
-	case v >= 0:
-		m = p.v0 + v
 	case t == 0 || t == 1: // a vertex that marks nothing: it, not a split on it
-		m = p.v0 + sr.i + int(t)
+		m = b.parts[sr.part].v0 + sr.i + int(t)
 	default:
 		m = -1
 		for _, o := range b.splits[sr.part] {
@@ -822,7 +832,7 @@ func (b *builder) statusOf(seg int) string {
 	return b.c.Pathways[b.parts[b.segs[seg].part].pw].Status
 }
 
-// tapMergeM is how far apart along one pathway a counted lateral's tap and another place
+// tapMergeM is how far apart along one run a counted lateral's tap and another place
 // where something branches off it (a pathway that meets it, a structure, another lateral's
 // tap) may lie and still be one handhole: the tap moves there (placeTaps). A handhole is a
 // box of 1 to 2 m in the ground (README "Input"), so two branch points within 2 m enter one
@@ -858,9 +868,10 @@ func (b *builder) tapAt(bi, door int, plan bool, seg int, t float64, foot bool, 
 }
 
 // placeTaps turns every counted lateral's place into the member that becomes its junction.
-// A place within tapMergeM along its pathway of a junction already there (a line's end, where
+// A place within tapMergeM along the run of a junction already there (a line's end, where
 // another pathway or a structure joins, another lateral's tap) moves to that junction, the
-// nearest, when the lateral stays within MaxLateralM: one handhole, or the structure there,
+// nearest; the run is followed across plain joints into the next piece (alongRun), so how a
+// street is split into pathways or lines moves no tap, when the lateral stays within MaxLateralM: one handhole, or the structure there,
 // serves both. Not to a junction on or within SnapM of a footprint (a way into a building).
 // Otherwise target places it. The taps are placed west to east, then south to north, so a
 // tap that moves to another's follows the places, not the features' order or ids.
@@ -897,8 +908,9 @@ func (b *builder) placeTaps() {
 		}
 	}
 	// A point where two pieces of one run meet end to end with nothing else there (a pathway
-	// split at a vertex) branches nothing: a tap does not move to it, so that a split changes
-	// no tap (the joints that junction numbering leaves unnumbered, joints).
+	// split at a vertex) branches nothing: a tap does not move to it, and the distance along
+	// the run goes on through it into the next piece (alongRun), so that a split changes no
+	// tap (the joints that junction numbering leaves unnumbered, joints).
 	plain := func(r int) bool {
 		ps := ends[r]
 		if len(ps) != 2 || ps[0] == ps[1] || mid[r] || b.labeled[r] {
@@ -927,8 +939,10 @@ func (b *builder) placeTaps() {
 		p := &b.parts[sr.part]
 		at := p.along(sr.i, q.t)
 		best, bestD := -1, math.Inf(1)
-		try := func(m int, along float64) {
-			d := math.Abs(along - at)
+		try := func(m int, d float64) {
+			// To the micrometre, so that a run split at a vertex, whose lengths along add up
+			// in another order, ties the same way.
+			d = math.Round(d*1e6) / 1e6
 			if d > tapMergeM || !junction(m) || (best >= 0 && (d > bestD || d == bestD && !lessLL(b.mem[m].ll, b.mem[best].ll))) {
 				return
 			}
@@ -942,14 +956,35 @@ func (b *builder) placeTaps() {
 			}
 			best, bestD = m, d
 		}
-		for v := range p.xy {
-			try(p.v0+v, p.cum[v])
-		}
-		for _, m := range b.splits[sr.part] {
-			try(m, p.along(b.mem[m].seg, b.mem[m].t))
-		}
+		b.alongRun(sr.part, at, tapMergeM, ends, plain, func(pi int, dist func(float64) float64) {
+			pp := &b.parts[pi]
+			for v := range pp.xy {
+				try(pp.v0+v, dist(pp.cum[v]))
+			}
+			for _, m := range b.splits[pi] {
+				try(m, dist(pp.along(b.mem[m].seg, b.mem[m].t)))
+			}
+		})
 		if best < 0 {
-			best = b.target(q.seg, q.t)
+			// As target: the nearest vertex within SnapM along the run that marks a place on
+			// it, so that no span shorter than SnapM is cut off, but not a plain joint on a
+			// straight run, which the run drawn as one line does not have.
+			snapD := math.Inf(1)
+			b.alongRun(sr.part, at, b.snap, ends, plain, func(pi int, dist func(float64) float64) {
+				pp := &b.parts[pi]
+				for v := range pp.xy {
+					m, d := pp.v0+v, math.Round(dist(pp.cum[v])*1e6)/1e6
+					if d > b.snap || !b.marks(pp, v) || b.straightJoint(b.find(m), ends, plain) {
+						continue
+					}
+					if best < 0 || d < snapD || d == snapD && lessLL(b.mem[m].ll, b.mem[best].ll) {
+						best, snapD = m, d
+					}
+				}
+			})
+			if best < 0 {
+				best = b.placeAt(q.seg, q.t)
+			}
 		}
 		b.mem[best].force = true
 		b.doors[q.bi][q.door].target = best
@@ -957,6 +992,73 @@ func (b *builder) placeTaps() {
 			b.plans[q.bi].target = best
 		}
 	}
+}
+
+// alongRun calls visit with part pi, whose place at along (metres from its vertex 0) is
+// where a run is measured from, and with every part that continues it end to end through
+// plain joints (two pieces of one run meeting with nothing else there: plain, ends as in
+// placeTaps) up to withinM along the run from that place. dist turns a position along the
+// visited part (metres from its vertex 0) into metres along the run from the place, so
+// that how a run is split into pathways or lines does not change what lies within withinM.
+// The parts of a run that closes on itself are visited once.
+func (b *builder) alongRun(pi int, along, withinM float64, ends map[int][]int, plain func(r int) bool, visit func(pi int, dist func(float64) float64)) {
+	visit(pi, func(a float64) float64 { return math.Abs(a - along) })
+	start := &b.parts[pi]
+	last := len(start.xy) - 1
+	for _, end := range [2]int{0, last} {
+		base := along // metres along the run from the place to the joint
+		if end == last {
+			base = start.cum[last] - along
+		}
+		cur, v := pi, end
+		for steps := 0; base <= withinM && steps < len(b.parts); steps++ {
+			r := b.find(b.parts[cur].v0 + v)
+			if !plain(r) {
+				break
+			}
+			next := ends[r][0]
+			if next == cur {
+				next = ends[r][1]
+			}
+			if next == pi {
+				break
+			}
+			q := &b.parts[next]
+			qLast := len(q.xy) - 1
+			from := base
+			if b.find(q.v0) == r {
+				visit(next, func(a float64) float64 { return from + a })
+				v = qLast
+			} else {
+				visit(next, func(a float64) float64 { return from + q.cum[qLast] - a })
+				v = 0
+			}
+			base += q.cum[qLast]
+			cur = next
+		}
+	}
+}
+
+// straightJoint reports whether root r is a plain joint (two pieces of one run meeting end
+// to end, plain) where the run goes straight on: the joint lies within BendToleranceM of the
+// chord between the kept vertices next to it on either piece, so the run drawn as one line
+// would have no bend there (markKept's test, on the nearest kept vertices only).
+func (b *builder) straightJoint(r int, ends map[int][]int, plain func(r int) bool) bool {
+	if !plain(r) {
+		return false
+	}
+	var near [2]vec
+	var at vec
+	for i, pi := range ends[r][:2] {
+		p := &b.parts[pi]
+		if b.find(p.v0) == r {
+			at, near[i] = p.xy[0], p.xy[p.kept[1]]
+		} else {
+			at, near[i] = p.xy[len(p.xy)-1], p.xy[p.kept[len(p.kept)-2]]
+		}
+	}
+	_, d2 := closestOnSeg(at, near[0], near[1])
+	return d2 <= BendToleranceM*BendToleranceM
 }
 
 // nearFootprint reports whether xy lies in a footprint or within SnapM of one.
@@ -1119,8 +1221,10 @@ func (b *builder) within(m poleMiss, r float64) poleMiss {
 	}
 	for pi := range b.parts {
 		if q := &b.parts[pi]; q.pw == m.pwi {
-			for _, xy := range q.xy {
-				m.poleM = min(m.poleM, m.dist(xy))
+			for v, xy := range q.xy {
+				if !b.wallEnd(q, v) {
+					m.poleM = min(m.poleM, m.dist(xy))
+				}
 			}
 		}
 	}
@@ -1143,7 +1247,8 @@ func (m poleMiss) String() string {
 // "Pathway types"). A pole stands at every vertex of an aerial pathway (a pole line is drawn
 // pole to pole: the strand runs straight between two poles, so where the line is drawn to
 // turn or not, a vertex is where it is held) and wherever another pathway or a structure
-// joins it between two vertices (poleJoin).
+// joins it between two vertices (poleJoin); the line's end on a wall is the building's, no
+// pole (wallEnd).
 func (b *builder) nearestPole(ids []int32, dist func(vec) float64, segDist func(a, c vec) (float64, float64)) (place, poleMiss) {
 	best := place{seg: -1}
 	var miss poleMiss
@@ -1167,6 +1272,9 @@ func (b *builder) nearestPole(ids []int32, dist func(vec) float64, segDist func(
 			missPw, missD = p.pw, d
 		}
 		for _, v := range [2]int{sr.i, sr.i + 1} {
+			if b.wallEnd(p, v) {
+				continue
+			}
 			if v == len(p.xy)-1 {
 				try(place{seg: p.s0 + v - 1, t: 1}, p.xy[v])
 			} else {
@@ -1183,6 +1291,14 @@ func (b *builder) nearestPole(ids []int32, dist func(vec) float64, segDist func(
 		miss = poleMiss{pw: b.c.Pathways[missPw].ID, pwi: missPw, spanM: missD, poleM: missPole, dist: dist}
 	}
 	return best, miss
+}
+
+// wallEnd reports whether vertex v of part p is an end of its line on or within SnapM of a
+// footprint: where a pole line ends on a wall the strand is fastened to the building, a way
+// into it and no pole, so no lateral comes down there (a way into a building is no place to
+// tap, as in placeTaps and poleJoin).
+func (b *builder) wallEnd(p *part, v int) bool {
+	return (v == 0 || v == len(p.xy)-1) && b.nearFootprint(p.xy[v])
 }
 
 // poleJoin reports whether split member m, between two vertices of a pole line, is a pole: a

@@ -1,8 +1,10 @@
 package geo
 
 import (
+	"fmt"
 	"math"
 	"slices"
+	"strings"
 	"testing"
 
 	"github.com/paulmach/orb"
@@ -157,4 +159,160 @@ func buildOneLateral(t *testing.T, c *Campus, opt Options) (*Network, Entry, Jun
 	}
 	j, _ := n.Junction(es[0].Junction)
 	return n, es[0], j
+}
+
+// TestTapMovesAcrossJoints: the 2 m of TestTapMovesToJunction (tapMergeM, common practice, no
+// published source) are measured along the run, across the joints where two pieces of one run
+// (the same ducts) meet end to end with nothing else there, so a street drawn as one line, as
+// one line with a vertex between the tap and the branch point, as two pathways or as one
+// pathway of two lines gives B the same tap and the network the same junctions (review 14 F4:
+// B tapped at (0, 0), a second junction 1.5 m from the branch, when a joint lay between). A
+// joint between two pieces of different ducts is a junction (a line's end) and takes the tap.
+func TestTapMovesAcrossJoints(t *testing.T) {
+	t.Parallel()
+	const branchX = 1.5
+	campus := func(street []Pathway, x float64) *Campus {
+		c := Campus{Buildings: []Building{box("B", 0, 28, 10), box("K", x, -25, 5)},
+			Pathways: append(street, pw("L-K", ml(x, 0, x, -20)))}
+		for i := range c.Pathways[:len(street)] {
+			c.Pathways[i].Group = "G"
+		}
+		return &c
+	}
+	other := pw("S2", ml(1, 0, 100, 0))
+	other.SpareDucts = 4
+	for _, tc := range []struct {
+		name   string
+		street []Pathway
+		x      float64   // where L-K branches off
+		want   orb.Point // B's tap
+	}{
+		{"one street", []Pathway{pw("S", ml(-100, 0, 100, 0))}, branchX, at(branchX, 0)},
+		{"a vertex at 1 m", []Pathway{pw("S", ml(-100, 0, 1, 0, 100, 0))}, branchX, at(branchX, 0)},
+		{"two pathways meeting at 1 m", []Pathway{pw("S1", ml(-100, 0, 1, 0)), pw("S2", ml(1, 0, 100, 0))}, branchX, at(branchX, 0)},
+		{"two pathways meeting at 0.5 m", []Pathway{pw("S1", ml(-100, 0, 0.5, 0)), pw("S2", ml(0.5, 0, 100, 0))}, branchX, at(branchX, 0)},
+		{"the second drawn the other way", []Pathway{pw("S1", ml(-100, 0, 1, 0)), pw("S2", ml(100, 0, 1, 0))}, branchX, at(branchX, 0)},
+		{"three pathways, joints at 0.5 and 1 m", []Pathway{pw("S1", ml(-100, 0, 0.5, 0)), pw("S2", ml(1, 0, 0.5, 0)), pw("S3", ml(1, 0, 100, 0))}, branchX, at(branchX, 0)},
+		{"one pathway of two lines meeting at 1 m", []Pathway{pw("S", ml(-100, 0, 1, 0), ml(1, 0, 100, 0))}, branchX, at(branchX, 0)},
+		{"the tap's own piece beyond the joint", []Pathway{pw("S1", ml(-100, 0, -0.5, 0)), pw("S2", ml(-0.5, 0, 100, 0))}, branchX, at(branchX, 0)},
+		{"one street, branch 2.5 m along: a tap of its own", []Pathway{pw("S", ml(-100, 0, 100, 0))}, 2.5, at(0, 0)},
+		{"two pathways, branch 2.5 m along: a tap of its own", []Pathway{pw("S1", ml(-100, 0, 1, 0)), pw("S2", ml(1, 0, 100, 0))}, 2.5, at(0, 0)},
+		{"other ducts beyond 1 m: that line's end", []Pathway{pw("S1", ml(-100, 0, 1, 0)), other}, branchX, at(1, 0)},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			c := campus(tc.street, tc.x)
+			n, e, j := buildOneLateral(t, c, Options{})
+			if d := DistanceM(j.Point, tc.want); d > 0.01 {
+				t.Errorf("B taps at %v (%.2f m off); want %v", j.Point, d, tc.want)
+			}
+			if want := DistanceM(at(0, 18), at(0, 0)); math.Abs(e.LateralM-want) > 0.05 {
+				t.Errorf("B's lateral %.3f m; want %.3f (the tap moves along B's wall)", e.LateralM, want)
+			}
+			one, _, _ := buildOneLateral(t, campus([]Pathway{pw("S", ml(-100, 0, 100, 0))}, tc.x), Options{})
+			if got, want := numbered(n), numbered(one); tc.name != "other ducts beyond 1 m: that line's end" && !slices.Equal(got, want) {
+				t.Errorf("numbered junctions %v; want %v, as the street drawn as one line", got, want)
+			}
+			slices.Reverse(c.Buildings)
+			slices.Reverse(c.Pathways)
+			if a, b := entryPoints(t, n, "B"), entryPoints(t, build(t, c), "B"); !slices.Equal(a, b) {
+				t.Errorf("features reversed: B's entrances %+v, want %+v", b, a)
+			}
+		})
+	}
+}
+
+// numbered lists n's numbered junctions (not the joints named by their spans) as id and
+// place to the centimetre.
+func numbered(n *Network) []string {
+	var out []string
+	for _, j := range n.Junctions {
+		if len(j.ID) == 5 && j.ID[0] == 'J' && strings.Trim(j.ID[1:], "0123456789") == "" {
+			out = append(out, fmt.Sprintf("%s %.7f %.7f", j.ID, j.Point[0], j.Point[1]))
+		}
+	}
+	return out
+}
+
+// TestTapSplitAnywhere: B's counted lateral taps the street S below its middle (0, 0), and K's
+// drawn lateral tees off at branchX, within or beyond the 2 m of tapMergeM (common practice,
+// no published source). S drawn split at one or two points (as two or three pathways, the
+// middle one drawn the other way, or as one pathway of as many lines) gives B the same tap
+// and lateral and the network the same numbered junctions as S drawn whole.
+func TestTapSplitAnywhere(t *testing.T) {
+	t.Parallel()
+	campus := func(street []Pathway, branchX float64) *Campus {
+		c := Campus{Buildings: []Building{box("B", 0, 28, 10), box("K", branchX, -25, 5)},
+			Pathways: append(street, pw("L-K", ml(branchX, 0, branchX, -20)))}
+		for i := range c.Pathways[:len(street)] {
+			c.Pathways[i].Group = "G"
+		}
+		return &c
+	}
+	// pieces draws S from -100 to 100 cut at cuts (ascending), every other piece reversed.
+	pieces := func(cuts []float64) []orb.LineString {
+		xs := append(append([]float64{-100}, cuts...), 100)
+		var out []orb.LineString
+		for i := 0; i+1 < len(xs); i++ {
+			a, b := xs[i], xs[i+1]
+			if i%2 == 1 {
+				a, b = b, a
+			}
+			out = append(out, ml(a, 0, b, 0))
+		}
+		return out
+	}
+	for _, branchX := range []float64{-1.9, -1.2, 0.9, 1.5, 1.99, 2.3, 3} {
+		whole := campus([]Pathway{pw("S", ml(-100, 0, 100, 0))}, branchX)
+		n0, e0, _ := buildOneLateral(t, whole, Options{})
+		want, wantJ := entryPoints(t, n0, "B"), numbered(n0)
+		for _, cuts := range [][]float64{{-2.5}, {-1.0}, {-0.3}, {0.3}, {0.6}, {1.0}, {2.2}, {-1, 0.7}, {0.4, 1.1}, {-2.2, 2.2}} {
+			if slices.ContainsFunc(cuts, func(x float64) bool { return math.Abs(x-branchX) <= 2*DefaultSnapM }) {
+				continue // a joint within snap_m of the tee is noded into it: another drawing
+			}
+			lines := pieces(cuts)
+			var apart []Pathway
+			for i, l := range lines {
+				apart = append(apart, pw(fmt.Sprintf("S%d", i+1), l))
+			}
+			for _, street := range [][]Pathway{apart, {pw("S", lines...)}} {
+				name := fmt.Sprintf("tee at %g, cuts %v, %d pathways", branchX, cuts, len(street))
+				n, e, _ := buildOneLateral(t, campus(street, branchX), Options{})
+				if got := entryPoints(t, n, "B"); !slices.Equal(got, want) {
+					t.Errorf("%s: B's entrances %+v; want %+v, as drawn whole", name, got, want)
+				}
+				if math.Abs(e.LateralM-e0.LateralM) > 1e-6 {
+					t.Errorf("%s: B's lateral %.6f m; want %.6f", name, e.LateralM, e0.LateralM)
+				}
+				if got := numbered(n); !slices.Equal(got, wantJ) {
+					t.Errorf("%s: numbered junctions %v; want %v", name, got, wantJ)
+				}
+			}
+		}
+	}
+}
+
+// TestTapSnapsToBendAcrossJoint: B's tap place (0, 0) lies 0.3 m from where the street S
+// bends (it turns 5.7° there, away from B, 10 m over 100 m: a mark on the line); the tap takes the
+// bend, as it takes a vertex within snap_m that marks a place (no span shorter than SnapM is
+// cut off), whether S is drawn as one line or split at the bend into two pathways, which
+// meet there on no straight run.
+func TestTapSnapsToBendAcrossJoint(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		name   string
+		street []Pathway
+	}{
+		{"one line", []Pathway{pw("S", ml(-100, 0, 0.3, 0, 100, -10))}},
+		{"two pathways", []Pathway{pw("S1", ml(-100, 0, 0.3, 0)), pw("S2", ml(0.3, 0, 100, -10))}},
+		{"two pathways, the second drawn the other way", []Pathway{pw("S1", ml(-100, 0, 0.3, 0)), pw("S2", ml(100, -10, 0.3, 0))}},
+	} {
+		c := Campus{Buildings: []Building{box("B", 0, 28, 10)}, Pathways: tc.street}
+		for i := range c.Pathways {
+			c.Pathways[i].Group = "G"
+		}
+		_, _, j := buildOneLateral(t, &c, Options{})
+		if d := DistanceM(j.Point, at(0.3, 0)); d > 0.01 {
+			t.Errorf("%s: B taps at %v, %.2f m from the bend; want the bend", tc.name, j.Point, d)
+		}
+	}
 }

@@ -2,6 +2,7 @@ package geo
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -85,5 +86,46 @@ func TestLateralTapsAtPole(t *testing.T) {
 		if !strings.Contains(err.Error(), want) {
 			t.Errorf("max_lateral_m 15: %q; want it to say %q", err, want)
 		}
+	}
+}
+
+// TestPoleLineEndOnWall: the pole line A-1 is drawn from building C's wall (x = 0) east, with
+// poles at 50 and 100 m; building B stands 20 m north of the line's end on the wall. That end
+// is where the strand is fastened to C, C's way in, and no pole (README "Pathway types": a
+// lateral from a pole line comes down a pole; a way into a building is no place to tap, common
+// practice, no published source): B gets no lateral down C's wall (review 14 F8: it tapped C's
+// entrance with a "pole riser"), and with the next pole 45 m off, beyond max_lateral_m, it is
+// not joined, the problem naming that pole. With max_lateral_m 60 it comes down the pole at 50 m.
+func TestPoleLineEndOnWall(t *testing.T) {
+	t.Parallel()
+	campus := func() *Campus {
+		p := pw("A-1", ml(0, 0, 50, 0, 100, 0))
+		p.Type, p.SpareDucts, p.DuctMM = TypeAerial, 0, 0
+		return &Campus{Buildings: []Building{box("C", -10, 0, 10), box("B", 5, 25, 5)}, Pathways: []Pathway{p}}
+	}
+	n := build(t, campus())
+	if es := n.EntrancesOf("C"); len(es) != 1 || es[0].Via != ViaFootprint {
+		t.Errorf("C's entrances %+v; want the line's end on its wall", es)
+	}
+	if es := n.EntrancesOf("B"); len(es) != 0 {
+		t.Errorf("B's entrances %+v; want none: the line's end on C's wall is no pole", es)
+	}
+	if len(n.Unjoined) != 1 || n.Unjoined[0].Building != "B" {
+		t.Fatalf("unjoined %+v; want B", n.Unjoined)
+	}
+	poleM := DistanceM(at(10, 20), at(50, 0)) // B's south-east corner to the pole at 50 m
+	msg := n.Unjoined[0].Problem("").Error()
+	for _, want := range []string{"no pathway within 30 m", "aerial pathway A-1 passes 20.0 m away", fmt.Sprintf("its nearest pole is %.1f m away", poleM)} {
+		if !strings.Contains(msg, want) {
+			t.Errorf("B unjoined: %q; want it to say %q", msg, want)
+		}
+	}
+
+	_, e, j := buildOneLateral(t, campus(), Options{MaxLateralM: 60})
+	if d := DistanceM(j.Point, at(50, 0)); d > 0.01 || !e.PoleRiser {
+		t.Errorf("max_lateral_m 60: B taps at %v (%.2f m from the pole at 50 m), pole riser %v; want the pole, down it", j.Point, d, e.PoleRiser)
+	}
+	if math.Abs(e.LateralM-poleM) > 0.02 {
+		t.Errorf("max_lateral_m 60: B's lateral %.3f m; want %.3f", e.LateralM, poleM)
 	}
 }

@@ -312,6 +312,18 @@ func TestSplitPathwayOneDuct(t *testing.T) {
 			same:  true,
 		},
 		{
+			// B's counted lateral taps S below its middle, 1.5 m from where K's duct tees
+			// off: the tap moves to that junction, one handhole for both (tapMergeM, 2 m,
+			// common practice, no published source), whether or not the street is split
+			// between them (review 14 F4: drawn split, a second tap handhole 1.5 m away).
+			name:  "a lateral's tap 1.5 m from a tee, a joint between",
+			whole: []string{duct("S", -200, 0, 200, 0)},
+			split: []string{duct("S-a", -200, 0, 1, 0), duct("S-b", 1, 0, 200, 0)},
+			common: []string{testsite.Box("A", "mc", -150, 30), testsite.Box("B", "", 0, 28), testsite.Box("K", "", 1.5, -30),
+				duct("LA", -150, 0, -150, 20), duct("L-K", 1.5, 0, 1.5, -20)},
+			same: true,
+		},
+		{
 			name:   "the same ducts carry straight on from one piece",
 			whole:  []string{duct("D", 0, 25, 0, -100, 205, -100)},
 			split:  []string{duct("D-a", 0, 25, 0, -100), duct("D-b", 0, -100, 205, -100)},
