@@ -636,6 +636,15 @@ func reels(d plan.Design, channelM float64) (lengthM float64, n int) {
 	if d.ReelM > 0 { // a plan built in code may leave it 0: no reel limit
 		reelCarriesM(d) // each reel more takes less splicing slack than it carries, so this ends
 		n = max(1, int(math.Ceil(lengthM/d.ReelM-1e-9)))
+		// Each reel more carries reel_m less its joins' splicing slack with waste: at least
+		// (channel − J)(1 + w) / (reel_m − J(1 + w)) reels (J a join's slack), which the steps
+		// below start just short of, so that a reel carrying little besides its slack takes a
+		// step or two, not one per reel (review 15 F5: reel_m 100 with 47.6 m of slack an end
+		// spent minutes here).
+		w := 1 + d.WastePct/100
+		if j := spliceSlackM(d, 1); d.ReelM > j*w {
+			n = max(n, int(math.Floor((channelM-j)*w/(d.ReelM-j*w)))-1)
+		}
 		for math.Ceil((channelM+spliceSlackM(d, n-1))*(1+d.WastePct/100)-1e-9) > float64(n)*d.ReelM+1e-9 {
 			n++
 		}
