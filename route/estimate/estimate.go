@@ -1565,14 +1565,8 @@ func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg) []
 			pull++
 		}
 	}
-	for _, sp := range t.Splices {
-		if sp.NoStructure {
-			pull++
-		}
-		if sp.BuildsHandhole(s.Net) {
-			entered++
-		}
-	}
+	spPull, spEntered := t.SplicePointCrew(s.Net)
+	pull, entered = pull+spPull, entered+spEntered
 	times(n, items.AtJunctions(p, 1+pull+float64(t.AddedStructures), float64(t.Structures)+entered)...)
 	// Every cable end is prepared: both ends of each cable, and those a transition or a
 	// mid-span join adds (CableTakeoff.CableEnds); every transition enclosure and splice

@@ -418,7 +418,7 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 	if leg.Cable.SplicePoints() > 0 { // with none there is nothing to spare
 		_, pointPriced := cm.prices.Price(media.PriceKey{Item: media.PriceSplicePoint})
 		if alt := own(ch, true); alt.Joins > leg.Cable.Joins && alt.SplicePoints() < leg.Cable.SplicePoints() &&
-			(!pointPriced || cm.joinsCents(alt, ch) < cm.joinsCents(leg.Cable, ch)) {
+			(!pointPriced || cm.joinsCents(alt, ch, s.Net) < cm.joinsCents(leg.Cable, ch, s.Net)) {
 			f := withCable(facts, alt)
 			if again := cm.eng.Choose(f); again.Feasible && sameLaying(again, ch) {
 				ch, leg.Cable, facts = again, alt, f
@@ -468,9 +468,11 @@ func sameLaying(a, b media.Choice) bool {
 // joinsCents is what a leg's mid-span joins cost laid as ch: per join and cable its
 // closure, trays and splicing (items.Join), its two cable ends prepared (crew and bid items),
 // the closure installed and the splicing slack (cable with waste, pulled as duct); and each
-// splice point to build (splice_point_each, 0 when the book leaves it out). The one price the
-// placements of a leg's joins are compared on (fillLeg). Common practice, no published source.
-func (m *Model) joinsCents(t CableTakeoff, ch media.Choice) int64 {
+// splice point to build (splice_point_each, 0 when the book leaves it out) with the crew's work
+// there per cable (CableTakeoff.SplicePointCrew, as the bill counts it; review 15 F4). The one
+// price the placements of a leg's joins are compared on (fillLeg). Common practice, no
+// published source.
+func (m *Model) joinsCents(t CableTakeoff, ch media.Choice, net *geo.Network) int64 {
 	md := m.eng.Catalog().Medium(ch.Medium)
 	if md == nil || t.Joins == 0 {
 		return 0
@@ -479,13 +481,15 @@ func (m *Model) joinsCents(t CableTakeoff, ch media.Choice) int64 {
 	for _, p := range t.Splices {
 		slackM += p.SlackM
 	}
+	pull, entered := t.SplicePointCrew(net) // the crew's at the splice points to build, per cable
 	var cents int64
 	for _, c := range ch.Cables { // each cable of the leg joined (media.Cables)
 		per := slices.Concat(items.Join(m.prices, c.Count),
 			items.Crew(m.prices, media.CrewCableEndPrep, 2), items.Crew(m.prices, media.CrewEnclosureInstall, 1),
 			m.bidItems(media.BidBases{CableEnds: 2}))
 		cents += int64(t.Joins)*m.cents(per...) + m.cents(append(items.StructureLoops(slackM),
-			items.Cable(ch.Medium, ch.Construction, c.Count, md.Fibre(), items.Wasted(m.design, slackM)))...)
+			items.Cable(ch.Medium, ch.Construction, c.Count, md.Fibre(), items.Wasted(m.design, slackM)))...) +
+			m.cents(items.AtJunctions(m.prices, pull, entered)...)
 	}
 	point, _ := m.prices.Price(media.PriceKey{Item: media.PriceSplicePoint})
 	return cents + int64(t.SplicePoints())*point

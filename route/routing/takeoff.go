@@ -275,6 +275,22 @@ func (p SplicePoint) BuildsHandhole(n *geo.Network) bool {
 	return p.NoStructure && ok && sp.Type != geo.TypeAerial
 }
 
+// SplicePointCrew is the crew's work, per cable, at the cable's splice points to build (joins
+// no structure takes): each is a pull point, where the next reel's pull starts, and one built
+// as a handhole is entered to splice (tester 11's finding 5). The bill (estimate) and the
+// price of a placement of joins (Model.joinsCents) read it. Common practice, no published source.
+func (t CableTakeoff) SplicePointCrew(n *geo.Network) (pullPoints, entered float64) {
+	for _, sp := range t.Splices {
+		if sp.NoStructure {
+			pullPoints++
+		}
+		if sp.BuildsHandhole(n) {
+			entered++
+		}
+	}
+	return pullPoints, entered
+}
+
 // Text is the place as a person reads it, with lengths written by length (the output's units).
 func (p SplicePoint) Text(length func(m float64) string) string {
 	switch {
