@@ -1178,7 +1178,7 @@ func (sv *solver) run() {
 			// count of sound pulls fills banks, and a cold plan of the generated 200-building
 			// campus with trench at 3 times the price was 5-9 % dearer than one warm-started
 			// from the routes of cheap trench (TestWarmBaseOrder; with only those trenches
-			// free, 1.5-5 %; with them, the proposed spans and the charges, within 1.5 %).
+			// free, 5-8 %; with them, the proposed spans and the charges, within 1.5 %).
 			if n <= maxTrenchStart && sv.hasTrench() {
 				sv.flush()
 				first := sv.st
@@ -1233,8 +1233,8 @@ const maxSecondStart = 100000
 // maxTrenchStart bounds demands × (proposed edges and charges) for which Solve, beyond
 // maxSecondStart, also starts from the plan with the trenches beside full duct banks, the
 // proposed edges and the charges free (run), without the kicks: it doubles the time of the
-// search, which on the generated 1,000-building campus
-// (some 4,000,000) is not spent.
+// search, which on the generated 1,000-building campus (above the bound: its plan is the same
+// byte for byte with the bound at 0) is not spent.
 const maxTrenchStart = 1000000
 
 // maxKickWork bounds demands × proposed edges for which Solve runs the perturbation phase:
