@@ -1,6 +1,7 @@
 package route_test
 
 import (
+	"fmt"
 	"slices"
 	"strings"
 	"testing"
@@ -50,5 +51,29 @@ func TestTunnelThroughBuildingCountsInside(t *testing.T) {
 	wide, wCross := plan(40)
 	if wide != "indoor-outdoor" || !slices.Contains(wCross, "M") {
 		t.Errorf("40 m across M: %s crossing %q; want indoor-outdoor (listed) cable, M crossed", wide, wCross)
+	}
+}
+
+// TestTunnelThroughBuildingTwice: a tunnel that crosses the two arms of a U-shaped building M
+// (12 m inside each, the open yard between them outside) is inside M twice, 12 m from each
+// point of entrance: NFPA 70 770.48(A) counts unlisted outside-plant cable from the point where
+// it enters (from memory; the rule through-15m), so each crossing is within 15 m and the cable
+// stays outside-plant; summed over the two crossings (24 m) it was refused (review 15 F7).
+func TestTunnelThroughBuildingTwice(t *testing.T) {
+	t.Parallel()
+	u := [][2]float64{{72, 15}, {84, 15}, {84, 35}, {96, 35}, {96, 15}, {108, 15}, {108, 50}, {72, 50}, {72, 15}}
+	var ring []string
+	for _, p := range u {
+		ring = append(ring, fmt.Sprintf("[%.7f,%.7f]", testsite.X(p[0]), testsite.Y(p[1])))
+	}
+	m := `{"type":"Feature","properties":{"kind":"building","id":"M","riser_m":2,"transit":true},"geometry":{"type":"Polygon","coordinates":[[` + strings.Join(ring, ",") + `]]}}`
+	f := []string{testsite.Long("A", "mc", 0, 20), m, testsite.Long("B", "", 200, 220), testsite.Pathway("T", "tunnel", 20, 25, 200, 25)}
+	r, err := testplan.PullSolveJSON(t, `{"type":"FeatureCollection","features":[`+strings.Join(f, ",")+`]}`, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, l := testplan.LegOf(t, r, "A-B")
+	if got := l.ConstructionText(); got != "osp-loose-tube" || !slices.Contains(l.Crosses, "M") {
+		t.Errorf("two 12 m crossings of M: %s crossing %q; want osp-loose-tube (each within 15 m of its entrance), M crossed", got, l.Crosses)
 	}
 }

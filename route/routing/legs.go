@@ -220,7 +220,7 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 	types := map[string]bool{}
 	seen := map[string]bool{}
 	var pass []int                   // the nodes of the turn edges the route is passing, in travel order
-	throughM := map[string]float64{} // metres inside buildings passed through along tunnels and trays across them (geo.Span.Through)
+	throughM := map[string]float64{} // the longest crossing of each building passed through along tunnels and trays across it (geo.Span.Through)
 	for k, h := range ol.Hops {
 		x, extra := lay.isExtra(len(s.Net.Spans), h.Edge)
 		if extra && x.kind == edgeTurn {
@@ -250,7 +250,9 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 		for _, c := range sp.Through {
 			beneath = append(slices.Clip(beneath), c.Building)
 			if c.Building != leg.Link.To && c.Building != leg.Link.From {
-				throughM[c.Building] += c.LengthM
+				// Each crossing is counted from its own point of entrance (NFPA 70 770.48(A)):
+				// a building crossed twice is inside for the longer crossing, not the sum.
+				throughM[c.Building] = max(throughM[c.Building], c.LengthM)
 			}
 		}
 		if !h.Forward && len(beneath) > 1 {
