@@ -946,14 +946,7 @@ func TestNoMediumNamesMissingTransitionPrice(t *testing.T) {
 	if ch := newEngine(t, nil, nil, EngineOptions{}).Choose(link); !ch.Feasible || ch.Inside == "" {
 		t.Fatalf("with the demo book: feasible %v, inside %q (%s); the test wants a transition", ch.Feasible, ch.Inside, ch.Reason)
 	}
-	book, err := ParsePriceBook("no-transition.yaml", []byte(strings.Replace(string(pricesYAML), "transition_splice_each: 260.00", "", 1)))
-	if err != nil {
-		t.Fatal(err)
-	}
-	e, err := NewEngine(nil, nil, book, EngineOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
+	e := engineWith(t, nil, nil, bookWith(t, "transition_splice_each: 260.00", ""), EngineOptions{}) // no enclosure price
 	ch := e.Choose(link)
 	if ch.Feasible {
 		t.Fatalf("feasible without the transition price: %s %s", ch.Medium, ch.Construction)
@@ -1000,14 +993,7 @@ func TestLayingFor(t *testing.T) {
 	if !(rSpliced > 0 && rSpliced < rIO) {
 		t.Errorf("reach: indoor/outdoor %.1f m, spliced %.1f m; want the spliced shorter", rIO, rSpliced)
 	}
-	book, err := ParsePriceBook("no-transition.yaml", []byte(strings.Replace(string(pricesYAML), "transition_splice_each: 260.00", "", 1)))
-	if err != nil {
-		t.Fatal(err)
-	}
-	plain, err := NewEngine(nil, nil, book, EngineOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
+	plain := engineWith(t, nil, nil, bookWith(t, "transition_splice_each: 260.00", ""), EngineOptions{}) // no enclosure price
 	if lay, _, ok := plain.LayingFor("os2", 10, buried); ok {
 		t.Errorf("no enclosure price: buried laid as %v", lay)
 	}
@@ -1108,14 +1094,7 @@ func TestTransitionPerEnd(t *testing.T) {
 		t.Errorf("reach spliced at CAF %.1f m, at both %.1f m; want the one end's longer", r1, r2)
 	}
 	// Without the enclosure's price, no transition: the rule names the longer end.
-	book, err := ParsePriceBook("no-transition.yaml", []byte(strings.Replace(string(pricesYAML), "transition_splice_each: 260.00", "", 1)))
-	if err != nil {
-		t.Fatal(err)
-	}
-	plain, err := NewEngine(nil, nil, book, EngineOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
+	plain := engineWith(t, nil, nil, bookWith(t, "transition_splice_each: 260.00", ""), EngineOptions{}) // no enclosure price
 	ch = plain.Choose(l)
 	if want := "it would run 19.5 m inside one (19.5 m inside CAF and 14 m inside ADM"; ch.Feasible || !strings.Contains(ch.Reason, want) {
 		t.Errorf("no enclosure price: feasible %v, reason %q, want %q", ch.Feasible, ch.Reason, want)

@@ -4,7 +4,6 @@ import (
 	"testing"
 
 	"spanwright/media"
-	"spanwright/route/plan"
 )
 
 // TestCableForKeysEachEnd: the cable a medium is priced as before routing (cableFor) depends on
@@ -15,12 +14,7 @@ import (
 // (it does not). Remembered by the risers' sum alone, the second link got the first's answer.
 func TestCableForKeysEachEnd(t *testing.T) {
 	t.Parallel()
-	p := plan.Default
-	eng, err := plan.Engine(&p)
-	if err != nil {
-		t.Fatal(err)
-	}
-	m := NewModel(eng, p.Design)
+	m, p := defaultModel(t)
 	ends := func(a, b float64) media.Link {
 		return media.Link{ID: "L", RiserM: a + b, ConnectorPairs: ConnectorPairs, Strands: 12, MaxEMI: "none",
 			InsideAM: a + p.Design.SlackM + p.Design.SlackLoopEntranceM, InsideBM: b + p.Design.SlackM + p.Design.SlackLoopEntranceM}

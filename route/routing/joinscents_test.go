@@ -17,12 +17,7 @@ import (
 // practice, no published source; the prices are the demo book's, invented.
 func TestJoinsCentsSplicePointCrew(t *testing.T) {
 	t.Parallel()
-	p := plan.Default
-	eng, err := plan.Engine(&p)
-	if err != nil {
-		t.Fatal(err)
-	}
-	m := NewModel(eng, p.Design)
+	m, _ := defaultModel(t)
 	ch := media.Choice{Medium: "os2", Construction: "osp-loose-tube", Cables: media.Cables{{Count: 24}}}
 	inHole := CableTakeoff{Joins: 1, Splices: []SplicePoint{{ID: "MH-1", SlackM: 27}}}
 	atPoint := CableTakeoff{Joins: 1, Splices: []SplicePoint{{ID: "B1", NoStructure: true, SlackM: 27}}}
@@ -35,4 +30,16 @@ func TestJoinsCentsSplicePointCrew(t *testing.T) {
 	if got := m.joinsCents(atPoint, ch, net) - m.joinsCents(inHole, ch, net); got != want {
 		t.Errorf("a splice point to build costs %s more than a join in a structure, want %s (its price and a pull set-up)", media.FormatCents(got), media.FormatCents(want))
 	}
+}
+
+// defaultModel is the cost model of plan.Default's design and engine (the demo's book and
+// catalog), and that plan.
+func defaultModel(t *testing.T) (*Model, plan.Plan) {
+	t.Helper()
+	p := plan.Default
+	eng, err := plan.Engine(&p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return NewModel(eng, p.Design), p
 }
