@@ -41,6 +41,10 @@ type state struct {
 	overfull int
 	unrouted int
 	unmet    int
+	// paidCents is the fixed prices paid afresh since the state began, never taken back: an
+	// edge's FixedCents when it opens, a charge when first used, the trench of an edge's first
+	// added duct. Only differences are read (closeSet).
+	paidCents int64
 }
 
 type key struct {
@@ -223,6 +227,9 @@ func (sv *solver) applyDucts(e, added int, ok bool) {
 		st.over[e] = !ok
 	}
 	if !sv.length {
+		if st.added[e] == 0 && added > 0 {
+			st.paidCents += sv.trenchCent[e]
+		}
 		st.total += sv.ductsCents(e, added) - sv.ductsCents(e, st.added[e])
 	}
 	st.added[e] = added
@@ -281,6 +288,7 @@ func (sv *solver) add(d int, c choice) {
 			st.count[e]++
 			if st.count[e] == 1 {
 				st.total += sv.fixedE[e]
+				st.paidCents += sv.fixedE[e]
 				if !sv.phantom[e] {
 					sv.freeChanged(int32(e), true)
 				}
@@ -289,6 +297,7 @@ func (sv *solver) add(d int, c choice) {
 				for _, k := range sv.chargesOf(e) {
 					if st.chUse[k]++; st.chUse[k] == 1 {
 						st.total += sv.p.Charges[k].Cents
+						st.paidCents += sv.p.Charges[k].Cents
 						sv.chargeHash ^= mix(uint64(k), 29)
 					}
 				}
