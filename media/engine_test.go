@@ -779,9 +779,13 @@ func TestChooseTransition(t *testing.T) {
 	}
 	// 3,000 m of 12-fibre OSP at 1.43 and 40 m of 12-fibre riser at 1.68; at each entrance an
 	// enclosure at 180.00 and one 12-splice tray at 38.00; 2 × 12 splices at 12 an hour, 92.00
-	// an hour; then terminations (2 × 2 at 13.50) and two 10GBASE-LR transceivers at 45.00.
+	// an hour; at each entrance the riser cable's two ends prepared (crew_each.cable_end_prep,
+	// 30.00) and labelled (bid item per cable end, 6.00) and the enclosure installed
+	// (crew_each.enclosure_install, 60.00): the crew figures are common practice, no published
+	// source, and the bill counts the same (TransitionEnds); then terminations (2 × 2 at
+	// 13.50) and two 10GBASE-LR transceivers at 45.00.
 	cable := int64(3000*143 + 40*168 + 2*(18000+3800))
-	labour := int64(2 * 9200)
+	labour := int64(2 * (9200 + 2*3000 + 2*600 + 6000))
 	if ch.CableCents != cable || ch.LabourCents != labour || ch.CostCents != cable+labour+2*2*1350+2*4500 {
 		t.Errorf("cost: cable %d, labour %d, total %d; want %d, %d, %d", ch.CableCents, ch.LabourCents, ch.CostCents, cable, labour, cable+labour+2*2*1350+2*4500)
 	}
@@ -1078,8 +1082,11 @@ func TestTransitionPerEnd(t *testing.T) {
 			t.Errorf("%d nm: both entrances lose %.4f dB more with %d splices more, want 0.307 and 1", x.WavelengthNM, d, y.Splices-x.Splices)
 		}
 	}
-	if d := both.costCents - one.costCents; d < 26000+3800+9200+350-1 || d > 26000+3800+9200+350+1 {
-		t.Errorf("both entrances cost %d cents more, want 39350 (an enclosure, a tray, 12 splices, 14 m of riser cable)", d)
+	// And the items of a transition end besides (TransitionEnds; the demo book, invented): the
+	// riser cable's two ends prepared at 30.00 and labelled at 6.00, the enclosure installed at
+	// 60.00 (crew figures: common practice, no published source).
+	if d := both.costCents - one.costCents; d < 26000+3800+9200+350+13200-1 || d > 26000+3800+9200+350+13200+1 {
+		t.Errorf("both entrances cost %d cents more, want 52550 (an enclosure, a tray, 12 splices, 14 m of riser cable, 2 cable ends, the enclosure installed)", d)
 	}
 	for _, c := range []struct {
 		name             string
