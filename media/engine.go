@@ -36,6 +36,10 @@ type EngineOptions struct {
 	CopperCordsM float64
 	// Margins replaces the catalog's margin policy when not nil.
 	Margins *MarginPolicy
+	// WastePct is the cable bought beyond the channel, in percent (design.waste_pct): the
+	// cost of a candidate prices the cable the bill buys, so that a transition's cheaper metres
+	// are weighed with their waste against its ends' items; 0 = none.
+	WastePct float64
 }
 
 // Engine applies a rule file to a catalog and prices the survivors from a price book. It is
@@ -654,7 +658,8 @@ func (e *Engine) future(l Link, c *candidate) {
 }
 
 // cost is the installed cost of a candidate, in cents: cable per metre (all cables bought
-// for the strands, Engine.Cables) times the channel length, one termination per strand
+// for the strands, Engine.Cables) times the channel length with the design's waste
+// (EngineOptions.WastePct), one termination per strand
 // (per 4-pair cable for copper) at each end, and one transceiver at each end. Two transceivers serve the link
 // whether the PHY is duplex (2 fibres) or parallel (8 fibres in one module each end).
 // Labour, pathway and enclosures are not part of it, but for a transition's: with one, the
@@ -665,8 +670,11 @@ func (e *Engine) cost(c *candidate, channelM float64, l Link) (cableCents, total
 	term, _ := e.prices.Price(PriceKey{Item: PriceTermination, Medium: c.m.ID})
 	trx, _ := e.prices.Price(PriceKey{Item: PriceTransceiver, Name: c.a.Transceiver})
 	ends := 2 * int64(c.strands)
+	// The cable bought: the channel with the design's waste, as the bill buys it (to whole
+	// metres there, a metre a piece at most).
+	bought := 1 + e.opt.WastePct/100
 	if c.inside == nil {
-		cableCents = MulCents(p.PerMCents, channelM)
+		cableCents = MulCents(p.PerMCents, channelM*bought)
 		return cableCents, cableCents + ends*term + 2*trx + c.b.attCents
 	}
 	// Outside-plant cable to the entrances of the transition, inside cable inside those
@@ -675,7 +683,7 @@ func (e *Engine) cost(c *candidate, channelM float64, l Link) (cableCents, total
 	// the bid items per cable end as labour.
 	ia, ib := l.transitionInsideM(channelM, c.at)
 	insideM := ia + ib
-	cableCents = MulCents(p.PerMCents, channelM-insideM) + MulCents(p.InsidePerMCents, insideM) + p.HardwareCents
+	cableCents = MulCents(p.PerMCents, (channelM-insideM)*bought) + MulCents(p.InsidePerMCents, insideM*bought) + p.HardwareCents
 	c.labourCents = p.LabourCents
 	return cableCents, cableCents + c.labourCents + ends*term + 2*trx + c.b.attCents
 }

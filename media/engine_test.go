@@ -1179,3 +1179,53 @@ func TestChooseLaid(t *testing.T) {
 		t.Errorf("indoor/outdoor buried: %+v, want not feasible (direct-burial)", refused)
 	}
 }
+
+// TestTransitionFullPrice is review 14's finding 7: the engine weighs an entrance transition
+// on every item its end puts on the bill (TransitionEnds), so a 24-strand link that saves
+// 69.89 USD of cable, enclosure, trays and splicing with the transition, but spends 132.00
+// more on the riser cable's two ends prepared and labelled and the enclosure installed, keeps
+// indoor/outdoor cable, as quill's CAF-DAI and CAF-PWR and tester 10's ADMN-B28 and B32 now do.
+// Figures from the demo book (invented): os2 24-strand indoor/outdoor 3.26, outside plant
+// 2.31 and riser 2.72 a metre, an enclosure 260.00, 12-splice trays at 38.00, 12 splices an
+// hour at 92.00, cable end preparation 30.00, enclosure installation 60.00 (crew figures:
+// common practice, no published source), labelling 6.00 a cable end; 5 % waste on every
+// metre, as the bill buys it. NFPA 70 770.48 (unlisted cable at most 15 m inside the
+// entrance, seen as fragment) makes the transition at A (20 m inside) and none at B (5 m).
+func TestTransitionFullPrice(t *testing.T) {
+	t.Parallel()
+	e := newEngine(t, nil, nil, EngineOptions{WastePct: 5})
+	l := Link{ID: "CAF-DAI", RouteM: 560, RiserM: 30, SlackM: 10, RateGbps: 10, Outdoor: true, ConnectorPairs: 2, Strands: 24,
+		PathwayTypes: []string{"duct"}, InsideAM: 20, InsideBM: 5, EndA: "CAF", EndB: "DAI"}
+	ch := e.Choose(l)
+	if !ch.Feasible || ch.Medium != "os2" || ch.Construction != "indoor-outdoor" || ch.Inside != "" {
+		t.Fatalf("got %s %s spliced to %q at %v (%s), want os2 indoor-outdoor without a transition", ch.Medium, ch.Construction, ch.Inside, ch.InsideAt, ch.Reason)
+	}
+	// Indoor/outdoor over the 600 m channel with waste: 630 m at 3.26.
+	if want := int64(630 * 326); ch.CableCents != want || ch.LabourCents != 0 {
+		t.Errorf("indoor/outdoor: cable %d cents, labour %d; want %d, 0", ch.CableCents, ch.LabourCents, want)
+	}
+	m := e.cat.Medium("os2")
+	mi, ki := slices.Index(e.cat.Media, m), slices.IndexFunc(m.Constructions, func(k *Construction) bool { return k.ID == "osp-loose-tube" })
+	ai := slices.IndexFunc(e.cat.Applications, func(a *Application) bool { return a.Name == ch.Application })
+	var tr candidate
+	e.evaluate(&tr, l, linkLengths(l), mi, ai, ki, variant{inside: m.Construction("ofnr-riser"), at: EndA})
+	if tr.failed >= 0 {
+		t.Fatalf("the transition at CAF failed rule %d", tr.failed)
+	}
+	// 580 m of outside plant and 20 m of riser cable with waste, one enclosure and two trays:
+	// 1406.79 + 57.12 + 260.00 + 76.00; 24 splices at 12 an hour, 184.00.
+	narrowCable, splicing := int64(140679+5712+26000+7600), int64(18400)
+	// The riser cable's two ends prepared (2 × 30.00) and labelled (2 × 6.00), the enclosure
+	// installed (60.00).
+	ends := int64(2*3000 + 2*600 + 6000)
+	if tr.cableCents != narrowCable || tr.labourCents != splicing+ends {
+		t.Errorf("transition: cable %d cents, labour %d; want %d, %d", tr.cableCents, tr.labourCents, narrowCable, splicing+ends)
+	}
+	// The narrower price (no ends, no installation) would have chosen the transition.
+	if d := ch.CostCents - (tr.costCents - ends); d != 6989 {
+		t.Errorf("indoor/outdoor against the transition without its ends: %d cents dearer, want 6989", d)
+	}
+	if d := tr.costCents - ch.CostCents; d != 6211 {
+		t.Errorf("the transition costs %d cents more than indoor/outdoor, want 6211", d)
+	}
+}
