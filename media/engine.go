@@ -1085,7 +1085,8 @@ func (e *Engine) rejections(l Link, m *Medium, mi int, all, ok []*candidate, win
 }
 
 // costCovers says what a medium's cost in a reason holds: the engine's installed cost of the
-// medium, not a leg's whole cost (pathway, pulling, testing and patch cords are left out).
+// medium (cost: the cable bought with the design's waste and, with a transition, its ends'
+// items), not a leg's whole cost (pathway, pulling, testing and patch cords are left out).
 const costCovers = "of cable, terminations and transceivers"
 
 // preferRule is the i-th prefer rule.

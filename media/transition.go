@@ -22,17 +22,23 @@ func TransitionEnds(p *PriceBook, outside Cables, insideCables, n int) []Quantit
 	}
 	ends := float64(n)
 	cableEnds := 2 * insideCables * n
-	qs := []Quantity{
-		{Category: CategoryMaterial, Item: "entrance transition enclosure", Unit: UnitEach, Amount: ends * float64(len(outside)), Price: PriceKey{Item: PriceTransition}},
-		{Category: CategoryMaterial, Item: fmt.Sprintf("splice tray, %d splices", p.TraySplices()), Unit: UnitEach, Amount: ends * float64(outside.Trays(p)), Price: PriceKey{Item: PriceSpliceTray}},
-		{Category: CategoryLabour, Item: "splice fibre, entrance transitions", Unit: UnitEach, Amount: ends * float64(outside.Strands()),
-			Price: PriceKey{Item: PriceLabourHour}, Rate: PriceKey{Item: RateSplice}},
+	qs := make([]Quantity, 0, 5+len(p.BidItems)) // one allocation: the engine prices this for every candidate
+	qs = append(qs,
+		Quantity{Category: CategoryMaterial, Item: "entrance transition enclosure", Unit: UnitEach, Amount: ends * float64(len(outside)), Price: PriceKey{Item: PriceTransition}},
+		Quantity{Category: CategoryMaterial, Item: fmt.Sprintf("splice tray, %d splices", p.TraySplices()), Unit: UnitEach, Amount: ends * float64(outside.Trays(p)), Price: PriceKey{Item: PriceSpliceTray}},
+		Quantity{Category: CategoryLabour, Item: "splice fibre, entrance transitions", Unit: UnitEach, Amount: ends * float64(outside.Strands()),
+			Price: PriceKey{Item: PriceLabourHour}, Rate: PriceKey{Item: RateSplice}})
+	if q, ok := crew(p, CrewCableEndPrep, float64(cableEnds)); ok {
+		qs = append(qs, q)
 	}
-	qs = append(qs, Crew(p, CrewCableEndPrep, float64(cableEnds))...)
-	qs = append(qs, Crew(p, CrewEnclosureInstall, ends*float64(len(outside)))...)
-	for _, q := range p.BidQuantities(BidBases{CableEnds: cableEnds}) {
-		if it := p.bidItem(q.Price.Name); it != nil && it.Basis == BasisCableEnd && q.Amount != 0 {
-			qs = append(qs, q)
+	if q, ok := crew(p, CrewEnclosureInstall, ends*float64(len(outside))); ok {
+		qs = append(qs, q)
+	}
+	// The bid items per cable end, as PriceBook.BidQuantities lists them.
+	for _, it := range p.BidItems {
+		if it.Basis == BasisCableEnd && cableEnds != 0 {
+			qs = append(qs, Quantity{Category: CategoryBidItems, Item: it.Description, Unit: UnitEach, Amount: float64(cableEnds),
+				Price: PriceKey{Item: PriceBidItem, Name: it.ID}})
 		}
 	}
 	return qs
@@ -42,10 +48,18 @@ func TransitionEnds(p *PriceBook, outside Cables, insideCables, n int) []Quantit
 // nothing: a book without crew_each prices labour by the hour alone. A book with crew_each that
 // leaves this task out gets it all the same, not priced (PriceBook.NotPriced).
 func Crew(p *PriceBook, task string, amount float64) []Quantity {
-	if !p.Has(PriceCrew) || amount == 0 {
-		return nil
+	if q, ok := crew(p, task, amount); ok {
+		return []Quantity{q}
 	}
-	return []Quantity{{Category: CategoryLabour, Item: crewItems[task], Unit: UnitEach, Amount: amount, Price: PriceKey{Item: PriceCrew, Name: task}}}
+	return nil
+}
+
+// crew is Crew's one quantity, and whether there is one.
+func crew(p *PriceBook, task string, amount float64) (Quantity, bool) {
+	if !p.Has(PriceCrew) || amount == 0 {
+		return Quantity{}, false
+	}
+	return Quantity{Category: CategoryLabour, Item: crewItems[task], Unit: UnitEach, Amount: amount, Price: PriceKey{Item: PriceCrew, Name: task}}, true
 }
 
 var crewItems = map[string]string{
@@ -53,14 +67,4 @@ var crewItems = map[string]string{
 	CrewStructureEntry:   "crew entry into a structure, per cable",
 	CrewCableEndPrep:     "cable end preparation",
 	CrewEnclosureInstall: "enclosure or panel installation",
-}
-
-// bidItem is the book's bid item of id, or nil.
-func (p *PriceBook) bidItem(id string) *BidItem {
-	for i := range p.BidItems {
-		if p.BidItems[i].ID == id {
-			return &p.BidItems[i]
-		}
-	}
-	return nil
 }
