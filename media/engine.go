@@ -36,6 +36,10 @@ type EngineOptions struct {
 	CopperCordsM float64
 	// Margins replaces the catalog's margin policy when not nil.
 	Margins *MarginPolicy
+	// WastePct is the cable bought beyond the channel, in percent (design.waste_pct): the
+	// cost of a candidate prices the cable the bill buys, so that a transition's cheaper metres
+	// are weighed with their waste against its ends' items; 0 = none.
+	WastePct float64
 }
 
 // Engine applies a rule file to a catalog and prices the survivors from a price book. It is
@@ -312,7 +316,7 @@ type candidate struct {
 	at          Ends          // the ends of the transition; EndsNone when inside is nil
 	lossK       *Construction // k, or k and inside blended by length, for the loss budget
 	splices     int           // the link's splices, the termination splices and one per transition end
-	labourCents int64         // splicing the transitions, part of costCents
+	labourCents int64         // the transitions' labour and bid items per cable end (LayingPrice.LabourCents), part of costCents
 	b           budget        // the loss budget, on the reach-and-loss pair it uses
 	repair      int           // repair splices in the required margin
 }
@@ -654,26 +658,32 @@ func (e *Engine) future(l Link, c *candidate) {
 }
 
 // cost is the installed cost of a candidate, in cents: cable per metre (all cables bought
-// for the strands, Engine.Cables) times the channel length, one termination per strand
+// for the strands, Engine.Cables) times the channel length with the design's waste
+// (EngineOptions.WastePct), one termination per strand
 // (per 4-pair cable for copper) at each end, and one transceiver at each end. Two transceivers serve the link
 // whether the PHY is duplex (2 fibres) or parallel (8 fibres in one module each end).
-// Labour, pathway and enclosures are not part of it. With a transition, the inside cable is
-// l's (Link.transitionInsideM) at the candidate's ends.
+// Labour, pathway and enclosures are not part of it, but for a transition's: with one, the
+// inside cable is l's (Link.transitionInsideM) at the candidate's ends, and what the
+// entrances there put on the bill besides cable is added (layingPrice, TransitionEnds).
 func (e *Engine) cost(c *candidate, channelM float64, l Link) (cableCents, totalCents int64) {
 	p := e.layingPrice(c.m, c.k, c.inside, c.at, c.strands)
 	term, _ := e.prices.Price(PriceKey{Item: PriceTermination, Medium: c.m.ID})
 	trx, _ := e.prices.Price(PriceKey{Item: PriceTransceiver, Name: c.a.Transceiver})
 	ends := 2 * int64(c.strands)
+	// The cable bought: the channel with the design's waste, as the bill buys it (to whole
+	// metres there, a metre a piece at most).
+	bought := 1 + e.opt.WastePct/100
 	if c.inside == nil {
-		cableCents = MulCents(p.PerMCents, channelM)
+		cableCents = MulCents(p.PerMCents, channelM*bought)
 		return cableCents, cableCents + ends*term + 2*trx + c.b.attCents
 	}
 	// Outside-plant cable to the entrances of the transition, inside cable inside those
-	// buildings, and at each such entrance an enclosure with trays for every strand of the
-	// cable and the splicing.
+	// buildings, and at each such entrance its items (TransitionEnds): enclosures and trays
+	// with the cable, their installation, the splicing, the inside cable ends' preparation and
+	// the bid items per cable end as labour.
 	ia, ib := l.transitionInsideM(channelM, c.at)
 	insideM := ia + ib
-	cableCents = MulCents(p.PerMCents, channelM-insideM) + MulCents(p.InsidePerMCents, insideM) + p.HardwareCents
+	cableCents = MulCents(p.PerMCents, (channelM-insideM)*bought) + MulCents(p.InsidePerMCents, insideM*bought) + p.HardwareCents
 	c.labourCents = p.LabourCents
 	return cableCents, cableCents + c.labourCents + ends*term + 2*trx + c.b.attCents
 }
@@ -683,15 +693,18 @@ func (e *Engine) cost(c *candidate, channelM float64, l Link) (cableCents, total
 type LayingPrice struct {
 	PerMCents       int64 // the construction's cable per metre, all the cables the strands buy (Engine.Cables)
 	InsidePerMCents int64 // with a transition, the inside construction's per metre, all its cables; 0 without
-	HardwareCents   int64 // with a transition, the enclosures and splice trays at the entrances of its ends; 0 without
-	LabourCents     int64 // with a transition, splicing every strand at the entrances of its ends; 0 without
-	InsideCables    int   // with a transition, the cables of the inside construction at each of its ends; 0 without
+	// With a transition, what the entrances of its ends put on the bill besides cable
+	// (TransitionEnds): HardwareCents its material (enclosures and splice trays), LabourCents
+	// its labour (splicing, the inside cable ends' preparation, the enclosures' installation)
+	// and its bid items per cable end; 0 without.
+	HardwareCents int64
+	LabourCents   int64
+	InsideCables  int // with a transition, the cables of the inside construction at each of its ends; 0 without
 }
 
 // layingPrice prices construction k of medium m for strands strands (the cables Engine.Cables
-// buys), spliced to inside at the entrances of at when inside is not nil: at each, one
-// enclosure per outside cable and trays for every strand it holds (transition_splice_each,
-// splice_tray; Cables.Trays), and the splicing at the book's splices per hour.
+// buys), spliced to inside at the entrances of at when inside is not nil: the items of those
+// transition ends (TransitionEnds) priced one by one, as the bill prices them.
 func (e *Engine) layingPrice(m *Medium, k, inside *Construction, at Ends, strands int) LayingPrice {
 	cables, perM := e.Cables(m, k, strands)
 	p := LayingPrice{PerMCents: max(perM, 0)} // a check engine's book may price none of them
@@ -699,15 +712,12 @@ func (e *Engine) layingPrice(m *Medium, k, inside *Construction, at Ends, strand
 		return p
 	}
 	in, inPerM := e.Cables(m, inside, strands)
-	encl, _ := e.prices.Price(PriceKey{Item: PriceTransition})
-	tray, _ := e.prices.Price(PriceKey{Item: PriceSpliceTray})
-	spliced := cables.Strands()
 	p.InsidePerMCents, p.InsideCables = max(inPerM, 0), len(in)
-	ends := at.Count()
-	p.HardwareCents = int64(ends) * (int64(len(cables))*encl + int64(cables.Trays(e.prices))*tray)
-	if hour, ok := e.prices.Price(PriceKey{Item: PriceLabourHour}); ok {
-		if rate, ok := e.prices.Rate(PriceKey{Item: RateSplice}); ok && rate > 0 {
-			p.LabourCents = int64(math.Round(float64(ends*spliced) / rate * float64(hour)))
+	for _, q := range TransitionEnds(e.prices, cables, len(in), at.Count()) {
+		if q.Category == CategoryMaterial {
+			p.HardwareCents += e.prices.Cents(q)
+		} else {
+			p.LabourCents += e.prices.Cents(q)
 		}
 	}
 	return p
@@ -1083,7 +1093,8 @@ func (e *Engine) rejections(l Link, m *Medium, mi int, all, ok []*candidate, win
 }
 
 // costCovers says what a medium's cost in a reason holds: the engine's installed cost of the
-// medium, not a leg's whole cost (pathway, pulling, testing and patch cords are left out).
+// medium (cost: the cable bought with the design's waste and, with a transition, its ends'
+// items), not a leg's whole cost (pathway, pulling, testing and patch cords are left out).
 const costCovers = "of cable, terminations and transceivers"
 
 // preferRule is the i-th prefer rule.

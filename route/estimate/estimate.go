@@ -1505,14 +1505,19 @@ func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg) []
 	if l.Inside != "" {
 		// The entrance transitions, at the ends the engine chose (Leg.InsideAt): inside cable
 		// up those risers, and at each such entrance an enclosure per cable with trays for
-		// every strand it holds, all spliced through.
+		// every strand it holds, all spliced through, the inside cables' ends prepared and the
+		// enclosures installed.
 		for _, lot := range t.InsideCables.Lots() {
 			qs = append(qs, items.Cable(l.Medium, l.Inside, lot.Size.Count, true, t.InsideLengthM*float64(lot.Cables)))
 		}
-		spliced, at := t.Cables.Strands(), t.InsideEnds
-		add(media.CategoryMaterial, "entrance transition enclosure", media.UnitEach, float64(t.TransitionEnclosures()), media.PriceKey{Item: media.PriceTransition})
-		add(media.CategoryMaterial, fmt.Sprintf("splice tray, %d splices", p.TraySplices()), media.UnitEach, float64(at*t.Cables.Trays(p)), media.PriceKey{Item: media.PriceSpliceTray})
-		work("splice fibre, entrance transitions", media.UnitEach, float64(at*spliced), media.PriceKey{Item: media.RateSplice})
+		// The transition ends' own items (media.TransitionEnds, which the engine and the
+		// optimizer price the laying on): the bid items per cable end among them are counted
+		// on the plan's totals with the leg's other cable ends (bidBases, CableTakeoff.CableEnds).
+		for _, q := range media.TransitionEnds(p, t.Cables, len(t.InsideCables), t.InsideEnds) {
+			if q.Category != media.CategoryBidItems {
+				qs = append(qs, q)
+			}
+		}
 	}
 	ends := float64(2 * t.Terminated)
 	if fibre {
@@ -1568,13 +1573,13 @@ func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg) []
 	spPull, spEntered := t.SplicePointCrew(s.Net)
 	pull, entered = pull+spPull, entered+spEntered
 	times(n, items.AtJunctions(p, 1+pull+float64(t.AddedStructures), float64(t.Structures)+entered)...)
-	// Every cable end is prepared: both ends of each cable, and those a transition or a
-	// mid-span join adds (CableTakeoff.CableEnds); every transition enclosure and splice
-	// closure is installed. Common practice, no published source: a crew task per cable end
-	// and per enclosure whatever the strand count (ANSI/TIA-758-B gives the splice closures'
-	// placement, not their labour, from memory).
-	qs = append(qs, items.Crew(p, media.CrewCableEndPrep, float64(t.CableEnds()))...)
-	qs = append(qs, items.Crew(p, media.CrewEnclosureInstall, float64(t.Enclosures()))...)
+	// Every cable end is prepared: both ends of each cable, and those a mid-span join adds
+	// (CableTakeoff.CableEnds, less a transition's, listed with it above); every splice closure
+	// is installed (CableTakeoff.Enclosures, less the transition's). Common practice, no
+	// published source: a crew task per cable end and per enclosure whatever the strand count
+	// (ANSI/TIA-758-B gives the splice closures' placement, not their labour, from memory).
+	qs = append(qs, items.Crew(p, media.CrewCableEndPrep, float64(t.CableEnds()-t.InsideCableEnds()))...)
+	qs = append(qs, items.Crew(p, media.CrewEnclosureInstall, float64(t.Enclosures()-t.TransitionEnclosures()))...)
 	return qs
 }
 

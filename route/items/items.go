@@ -300,21 +300,9 @@ func TapHandholes(n int) media.Quantity {
 func TapCrew(p *media.PriceBook) []media.Quantity { return AtJunctions(p, 1, 1) }
 
 // Crew is amount of a crew task (media.CrewTasks) when the book prices crews (crew_each), else
-// nothing: a book without crew_each prices labour by the hour alone. A book with crew_each that
-// leaves this task out gets it all the same, not priced (media.PriceBook.NotPriced).
+// nothing (media.Crew, the one list of crew items, which the transitions' items read too).
 func Crew(p *media.PriceBook, task string, amount float64) []media.Quantity {
-	k := media.PriceKey{Item: media.PriceCrew, Name: task}
-	if !p.Has(media.PriceCrew) || amount == 0 {
-		return nil
-	}
-	return []media.Quantity{{Category: media.CategoryLabour, Item: crewItems[task], Unit: media.UnitEach, Amount: amount, Price: k}}
-}
-
-var crewItems = map[string]string{
-	media.CrewPullSetup:        "crew set-up, per pull",
-	media.CrewStructureEntry:   "crew entry into a structure, per cable",
-	media.CrewCableEndPrep:     "cable end preparation",
-	media.CrewEnclosureInstall: "enclosure or panel installation",
+	return media.Crew(p, task, amount)
 }
 
 // BidPer is what the book's bid items priced per unit of a route-dependent basis take for the

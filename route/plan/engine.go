@@ -75,7 +75,8 @@ func engine(p *Plan, build func(*media.Catalog, *media.Rules, *media.PriceBook, 
 // the catalog, rule and price files, all that Engine reads.
 func EngineOptions(p *Plan) media.EngineOptions {
 	return media.EngineOptions{LossMarginDB: p.Design.LossMarginDB, AllowOutdoorCopper: p.Design.AllowOutdoorCopper,
-		PairLossDB: p.Design.PairLossDB, SpliceLossDB: p.Design.SpliceLossDB, Termination: p.Design.Termination, CopperCordsM: p.Design.CopperCordsM}
+		PairLossDB: p.Design.PairLossDB, SpliceLossDB: p.Design.SpliceLossDB, Termination: p.Design.Termination, CopperCordsM: p.Design.CopperCordsM,
+		WastePct: p.Design.WastePct}
 }
 
 // MaxCopperChannelM is the longest copper channel, in metres: a 90 m permanent link plus

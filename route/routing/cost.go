@@ -791,8 +791,7 @@ func (m *Model) addOption(s *site.Site, dm *optimize.Demand, info *demandInfo, m
 		if lay.Inside != "" {
 			price := l.price
 			// The inside cable in the buildings of the transition's ends instead of the
-			// outside-plant cable there, the enclosures and trays at those entrances and the
-			// splicing (media.Engine's cost).
+			// outside-plant cable there (media.Engine's cost).
 			insideM := 0.0
 			if lay.At.Has(media.EndA) {
 				insideM += facts.InsideAM
@@ -801,13 +800,12 @@ func (m *Model) addOption(s *site.Site, dm *optimize.Demand, info *demandInfo, m
 				insideM += facts.InsideBM
 			}
 			insideM = items.Wasted(d, insideM)
+			// The transition ends' items besides cable (media.TransitionEnds: enclosures and
+			// trays, splicing, the inside cable ends' preparation, the enclosures'
+			// installation and the bid items per cable end), priced by the engine as the bill
+			// prices them (media.LayingPrice).
 			transition = media.MulCents(price.InsidePerMCents, insideM) - media.MulCents(price.PerMCents, insideM) +
 				price.HardwareCents + price.LabourCents
-			// Each inside cable's two ends, one at the entrance and one in the telecom room, in
-			// each building of the transition: prepared by the crew, with the bid items per
-			// cable end, as the bill counts them (CableTakeoff.CableEnds).
-			ends := 2 * price.InsideCables * lay.At.Count()
-			transition += m.cents(items.Crew(m.prices, media.CrewCableEndPrep, float64(ends))...) + m.cents(m.bidItems(media.BidBases{CableEnds: ends})...)
 		}
 	}
 	// The route may take what the channel leaves of the reach: the channel also holds the

@@ -93,8 +93,12 @@ func (t CableTakeoff) OutsideLengthM() float64 { return t.LengthM - t.InsideLeng
 // transition (the transition enclosure splices the outside cable's end to one of them). Set
 // once the medium is chosen (Fit).
 func (t CableTakeoff) CableEnds() int {
-	return 2*len(t.Cables)*(1+t.Joins) + 2*len(t.InsideCables)*t.InsideEnds
+	return 2*len(t.Cables)*(1+t.Joins) + t.InsideCableEnds()
 }
+
+// InsideCableEnds is the cable ends of an entrance transition's inside cables: both ends of
+// each in each building of the transition, those media.TransitionEnds prepares; 0 without.
+func (t CableTakeoff) InsideCableEnds() int { return 2 * len(t.InsideCables) * t.InsideEnds }
 
 // Enclosures is the enclosures the leg's cables put in the field, each installed once: a
 // transition enclosure per outside cable at each entrance of the transition (InsideEnds),
