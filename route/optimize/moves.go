@@ -1050,6 +1050,9 @@ func (sv *solver) improve() int {
 			if sv.reroute(d) {
 				changed = true
 			}
+			if sv.shorten(d) {
+				changed = true
+			}
 		}
 		if moves {
 			if sv.closeMoves() {

@@ -245,6 +245,12 @@ type solver struct {
 	joinWide  []uint32
 	joinEpoch uint32
 	joinOn    bool
+	// shorten's scratch: per node its position along the leg (posAt, valid where posSt ==
+	// posN) and the leg's nodes.
+	posAt  []int32
+	posSt  []uint32
+	posN   uint32
+	posBuf []int32
 	// warm is Settings.Start, the warm start (startWarm).
 	warm []StartRoute
 	// startUnused are the demands whose start route did not fit (Solution.StartUnused).
