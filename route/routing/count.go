@@ -36,6 +36,9 @@ func forCount(prob *optimize.Problem, sol *optimize.Solution, f *optimize.EdgeFi
 			continue
 		}
 		op := &prob.Demands[d].Options[r.Option]
+		if op.CableODMM <= 0 {
+			continue // a cable of no diameter takes no duct (the optimizer's placeAll)
+		}
 		for range max(op.Cables, 1) {
 			ods = append(ods, op.CableODMM)
 		}
