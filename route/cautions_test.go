@@ -167,7 +167,7 @@ func copperCampus() string {
 	f := []string{
 		riser.Replace(testsite.Box("A", "mc", 10, 25)), riser.Replace(testsite.Box("B", "", 40, 25)),
 		// Four spare ducts: the link's 4-pair cables, one per port pair (ANSI/TIA-568.2), three
-		// to a duct (install.SeparateCablesPerDuct: common practice, no published source),
+		// to a duct (install.DefaultCablesPerDuct: common practice, no published source),
 		// need no duct added beside D.
 		fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":"D","type":"duct","spare_ducts":4},"geometry":{"type":"LineString","coordinates":%s}}`,
 			line(10, 15, 10, 0, 40, 0, 40, 15)),

@@ -13,7 +13,7 @@ import (
 // independentCents routes every demand of prob alone, each paying in full for the proposed
 // edges it uses: the plan a designer gets by routing link by link with no shared trench. Its
 // routes laid together still need the ducts their cables need where they share a span (three
-// loose cables a duct, install.SeparateCablesPerDuct: common practice, no published source),
+// loose cables a duct, install.DefaultCablesPerDuct: common practice, no published source),
 // which no link alone sees: those are priced on the routes together (Settings.PlaceOnly with
 // the routes as the start), in place of the ducts each link alone paid for.
 func independentCents(t *testing.T, prob *optimize.Problem) int64 {

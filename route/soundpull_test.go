@@ -12,13 +12,14 @@ import (
 	"spanwright/route"
 	"spanwright/route/internal/testplan"
 	"spanwright/route/internal/testsite"
+	"spanwright/route/output"
 	"spanwright/route/plan"
 )
 
 // Sound pulls. NFPA 70 Chapter 9 Table 1 (seen) limits a duct's fill (53 % of its area for one
 // cable, 31 % for two, 40 % for more) but not the number of cables pulled into it one by one;
 // a practitioner pulls no more than 3 loose cables into one duct, each later pull dragging its
-// rope over the cables already in (install.SeparateCablesPerDuct: common practice, no
+// rope over the cables already in (install.DefaultCablesPerDuct: common practice, no
 // published source). The optimizer counts ducts by that rule (install.Load.Takes, the one
 // rule), lays what it counts and prices it, and the bill buys the same ducts and fills them so.
 
@@ -27,15 +28,24 @@ import (
 // (new_ducts 2), and innerduct of odMM/idMM (0, 0: loose cables).
 func soundPullPlan(t *testing.T, spare, n int, proposed, newTrench bool, innerODMM, innerIDMM float64) *route.Result {
 	t.Helper()
+	return soundPullPlanWith(t, spare, n, proposed, func(d *plan.Design) {
+		d.AllowNewTrench = newTrench
+		d.InnerductODMM, d.InnerductIDMM = innerODMM, innerIDMM
+	})
+}
+
+// soundPullPlanWith is soundPullPlan with the design (new_ducts 2, the default
+// cables_per_duct) changed by edit.
+func soundPullPlanWith(t *testing.T, spare, n int, proposed bool, edit func(d *plan.Design)) *route.Result {
+	t.Helper()
 	dir := t.TempDir()
 	if err := os.WriteFile(filepath.Join(dir, "prices.yaml"), costBook(t), 0o644); err != nil {
 		t.Fatal(err)
 	}
 	r, err := testplan.PullSolveJSON(t, testsite.FanN(100, spare, n, proposed), func(p *plan.Plan) {
 		p.Dir, p.Prices = dir, "prices.yaml"
-		p.Design.AllowNewTrench = newTrench
 		p.Design.NewDucts = 2
-		p.Design.InnerductODMM, p.Design.InnerductIDMM = innerODMM, innerIDMM
+		edit(&p.Design)
 	})
 	if err != nil {
 		t.Fatal(err)
@@ -178,4 +188,115 @@ func TestSoundPullsFullBank(t *testing.T) {
 			t.Errorf("T: %d spare, %d laid, cables per duct %v; want 2, 0, [3 3]", spare, laid, perDuct)
 		}
 	})
+}
+
+// TestCablesPerDuctNewTrench: design.cables_per_duct decides the ducts of new trench T
+// carrying seven 10 mm cables (new_ducts 1, so the design lays no more than one). With 0 the
+// fill alone decides (NFPA 70 Chapter 9 Table 1, seen: seven 10 mm cables are 7 % of a 100 mm
+// duct's area, within 40 %): one duct. With 3 (common practice, no published source) three
+// ducts, 3, 3 and 1; with 2, four, 2, 2, 2 and 1. In each the optimizer lays and prices what
+// the bill buys (oneCostModel), and the work laid only for the count
+// (estimate.Construction.ForCount) is T's ducts beyond the one the fill needs, no trench (T
+// is opened whatever the count), and the objective's difference from the plan of 0: the
+// routes are the same (there is no other way).
+func TestCablesPerDuctNewTrench(t *testing.T) {
+	t.Parallel()
+	plans := map[int]*route.Result{}
+	for _, perDuct := range []int{0, 2, 3} {
+		plans[perDuct] = soundPullPlanWith(t, 0, 7, true, func(d *plan.Design) {
+			d.AllowNewTrench, d.NewDucts, d.CablesPerDuct = true, 1, perDuct
+		})
+	}
+	fillAlone := plans[0]
+	sp, _ := fillAlone.Site.Net.Span("T")
+	for _, tc := range []struct {
+		perDuct    int
+		wantDucts  int
+		wantPerDct []int
+	}{
+		{0, 1, []int{7}},          // NFPA 70 Chapter 9 Table 1: 7 % of the area
+		{2, 4, []int{2, 2, 2, 1}}, // two a duct
+		{3, 3, []int{3, 3, 1}},    // three a duct: common practice, no published source
+	} {
+		r := plans[tc.perDuct]
+		name := fmt.Sprintf("cables_per_duct %d", tc.perDuct)
+		if fmt.Sprint(r.Opened) != "[T]" || fmt.Sprint(r.Opened) != fmt.Sprint(fillAlone.Opened) {
+			t.Fatalf("%s: opened %v, want [T]", name, r.Opened)
+		}
+		for i, l := range r.Legs {
+			if !l.Feasible || !slices.Equal(l.Steps, fillAlone.Legs[i].Steps) {
+				t.Fatalf("%s: leg %s feasible %v, route not the fill alone's", name, l.Label(), l.Feasible)
+			}
+		}
+		_, laid, perDuct, _ := ductsOfT(t, r)
+		if laid != tc.wantDucts || !slices.Equal(perDuct, tc.wantPerDct) {
+			t.Errorf("%s: T laid %d ducts, cables per duct %v; want %d, %v", name, laid, perDuct, tc.wantDucts, tc.wantPerDct)
+		}
+		if got := testplan.BOMQty(r.Estimate.BOM, "added duct"); math.Abs(got-float64(tc.wantDucts)*sp.LengthM) > 0.05 {
+			t.Errorf("%s: bill: added duct %.1f m, want %d × T's %.1f m", name, got, tc.wantDucts, sp.LengthM)
+		}
+		oneCostModel(t, name, r)
+		fc := r.Estimate.Construction.ForCount
+		wantDuctM := r.Estimate.Construction.AddedDuctM - fillAlone.Estimate.Construction.AddedDuctM
+		if math.Abs(fc.DuctM-float64(tc.wantDucts-1)*sp.LengthM) > 1e-6 || math.Abs(fc.DuctM-wantDuctM) > 1e-6 || fc.TrenchM != 0 {
+			t.Errorf("%s: laid for the count %.1f m of duct, %.1f m of trench; want %.1f m (the plans' added duct %.1f m apart), none",
+				name, fc.DuctM, fc.TrenchM, float64(tc.wantDucts-1)*sp.LengthM, wantDuctM)
+		}
+		if want := r.ObjectiveCents - fillAlone.ObjectiveCents; fc.Cents != want {
+			t.Errorf("%s: laid for the count %d cents, want the objectives' difference %d", name, fc.Cents, want)
+		}
+	}
+}
+
+// TestCablesPerDuctFullBank: nine 10 mm cables over existing duct T with two spare 100 mm
+// ducts. The fill alone puts them all in the first spare duct (9 % of its area, within NFPA 70
+// Chapter 9 Table 1's 40 %, seen), so with cables_per_duct 0 nothing is laid; with 3 (common
+// practice, no published source) the third three need a trench beside the bank with the
+// design's two ducts. That trench and its ducts are laid only for the count: ForCount is T's
+// length of trench and twice it of duct, the plans' new trench and added duct apart, and the
+// objectives' difference (the routes are the same); summary.json carries the same figures.
+func TestCablesPerDuctFullBank(t *testing.T) {
+	t.Parallel()
+	plans := map[int]*route.Result{}
+	for _, perDuct := range []int{0, 3} {
+		plans[perDuct] = soundPullPlanWith(t, 2, 9, false, func(d *plan.Design) {
+			d.AllowNewTrench, d.CablesPerDuct = true, perDuct
+		})
+	}
+	zero, three := plans[0], plans[3]
+	sp, _ := zero.Site.Net.Span("T")
+	for i, l := range three.Legs {
+		if !l.Feasible || !zero.Legs[i].Feasible || !slices.Equal(l.Steps, zero.Legs[i].Steps) {
+			t.Fatalf("leg %s: not one route in both plans", l.Label())
+		}
+	}
+	if _, laid, perDuct, _ := ductsOfT(t, zero); laid != 0 || !slices.Equal(perDuct, []int{9}) {
+		t.Errorf("fill alone: T laid %d ducts, cables per duct %v; want 0, [9]", laid, perDuct)
+	}
+	if fc := zero.Estimate.Construction.ForCount; fc.DuctM != 0 || fc.TrenchM != 0 || fc.Cents != 0 || len(fc.Spans) != 0 {
+		t.Errorf("fill alone: laid for the count %+v, want nothing", fc)
+	}
+	fc := three.Estimate.Construction.ForCount
+	c0, c3 := zero.Estimate.Construction, three.Estimate.Construction
+	if math.Abs(fc.TrenchM-sp.LengthM) > 1e-6 || math.Abs(fc.TrenchM-(c3.NewM-c0.NewM)) > 0.05 {
+		t.Errorf("laid for the count %.1f m of trench, want T's %.1f m, the plans' new trench %.1f m apart", fc.TrenchM, sp.LengthM, c3.NewM-c0.NewM)
+	}
+	if math.Abs(fc.DuctM-2*sp.LengthM) > 1e-6 || math.Abs(fc.DuctM-(c3.AddedDuctM-c0.AddedDuctM)) > 1e-6 {
+		t.Errorf("laid for the count %.1f m of duct, want 2 × T's %.1f m, the plans' added duct %.1f m apart", fc.DuctM, sp.LengthM, c3.AddedDuctM-c0.AddedDuctM)
+	}
+	if want := three.ObjectiveCents - zero.ObjectiveCents; fc.Cents != want || want <= 0 {
+		t.Errorf("laid for the count %d cents, want the objectives' difference %d (> 0)", fc.Cents, want)
+	}
+	if len(fc.Spans) != 1 || fc.Spans[0].Span != "T" || !fc.Spans[0].Trench || fc.Spans[0].Ducts != 2 {
+		t.Errorf("laid for the count on %+v, want T, its trench and 2 ducts", fc.Spans)
+	}
+	oneCostModel(t, "fill alone", zero)
+	oneCostModel(t, "three a duct", three)
+	s0, s3 := output.Summarize(zero), output.Summarize(three)
+	if s0.CablesPerDuct != 0 || s0.CountLaidCents != 0 || s0.CountLaidDuctM != 0 || s0.CountLaidTrenchM != 0 {
+		t.Errorf("summary of fill alone: %d a duct, %d cents, %.1f m duct, %.1f m trench; want 0s", s0.CablesPerDuct, s0.CountLaidCents, s0.CountLaidDuctM, s0.CountLaidTrenchM)
+	}
+	if s3.CablesPerDuct != 3 || s3.CountLaidCents != fc.Cents || s3.CountLaidDuctM != math.Round(fc.DuctM*10)/10 || s3.CountLaidTrenchM != math.Round(fc.TrenchM*10)/10 {
+		t.Errorf("summary: %d a duct, %d cents, %.1f m duct, %.1f m trench; want 3 and the estimate's %+v", s3.CablesPerDuct, s3.CountLaidCents, s3.CountLaidDuctM, s3.CountLaidTrenchM, fc)
+	}
 }

@@ -49,7 +49,7 @@ func BenchmarkSections(b *testing.B) {
 }
 
 func BenchmarkDuctBankAssign(b *testing.B) {
-	bank := DuctBank{Ducts: 6, IDMM: 102}
+	bank := DuctBank{CablesPerDuct: DefaultCablesPerDuct, Ducts: 6, IDMM: 102}
 	ods := []float64{22, 15.5, 30, 15.5, 9, 22, 41, 12, 18, 18, 25, 9}
 	for b.Loop() {
 		bank.Assign(ods)
@@ -60,9 +60,9 @@ func BenchmarkDuctBankAssign(b *testing.B) {
 // duct of six) first fit, then spread, against Pull alone; and a large bank, 2,000 cables in
 // 200 ducts, as a campus trunk of many innerduct-free cables would have.
 func BenchmarkDuctBankSpread(b *testing.B) {
-	small := DuctBank{Ducts: 6, IDMM: 102}
+	small := DuctBank{CablesPerDuct: DefaultCablesPerDuct, Ducts: 6, IDMM: 102}
 	smallODs := []float64{22, 15.5, 30, 15.5, 9, 22, 41, 12, 18, 18, 25, 9}
-	large := DuctBank{Ducts: 200, IDMM: 100}
+	large := DuctBank{CablesPerDuct: DefaultCablesPerDuct, Ducts: 200, IDMM: 100}
 	var largeODs []float64
 	for i := range 2000 {
 		largeODs = append(largeODs, []float64{10, 10.5, 13, 18}[i%4])

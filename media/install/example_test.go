@@ -37,7 +37,7 @@ func ExampleSections() {
 
 // Packing cables into the spare ducts of a segment.
 func ExampleDuctBank_Assign() {
-	bank := install.DuctBank{Ducts: 2, IDMM: 4.334 * install.MMPerIn} // EMT 4 in
+	bank := install.DuctBank{CablesPerDuct: install.DefaultCablesPerDuct, Ducts: 2, IDMM: 4.334 * install.MMPerIn} // EMT 4 in
 	a := bank.Assign([]float64{25.4, 61.2, 25.4, 18.0})
 	for d, f := range a.Ducts {
 		fmt.Printf("duct %d: %v mm, %.1f %% of %.0f %%, ok %v\n", d, f.CablesODMM, f.Pct, f.AllowedPct, f.OK)

@@ -122,18 +122,18 @@ type Load struct {
 }
 
 // Takes reports whether a cable of outside diameter odMM (mm) may be pulled into a duct of
-// internal diameter ductIDMM (mm) holding l: the duct holds fewer cables than PullLimit (for
-// loose cables, innerduct false, SeparateCablesPerDuct: a sound set of pulls, common practice,
-// no published source; for innerducts no count), with it the duct stays within the NFPA 70
-// Chapter 9 Table 1 fill for its new cable count, and, as the third cable, it makes no
-// jam-prone trio (Jam). It is the one rule that decides whether a cable goes into a duct: the
-// bill's fill check and spread (DuctBank) and the optimizer's duct capacity all pack with it.
-// It is false for invalid input.
-func (l Load) Takes(ductIDMM, odMM float64, innerduct bool) bool {
+// internal diameter ductIDMM (mm) holding l: the duct holds fewer cables than most, its count
+// of pulls (PullLimit: for loose cables the plan's design.cables_per_duct, a sound set of
+// pulls, common practice, no published source; 0, for innerducts or a plan of fill alone, no
+// count), with it the duct stays within the NFPA 70 Chapter 9 Table 1 fill for its new cable
+// count, and, as the third cable, it makes no jam-prone trio (Jam). It is the one rule that
+// decides whether a cable goes into a duct: the bill's fill check and spread (DuctBank) and the
+// optimizer's duct capacity all pack with it. It is false for invalid input.
+func (l Load) Takes(ductIDMM, odMM float64, most int) bool {
 	if !finite(ductIDMM) || ductIDMM <= 0 || !finite(odMM) || odMM <= 0 {
 		return false
 	}
-	if l.Cables >= PullLimit(innerduct) {
+	if most > 0 && l.Cables >= most {
 		return false
 	}
 	if l.UsedMM2+CableAreaMM2(odMM) > AllowedFillPct(l.Cables+1)/100*DuctAreaMM2(ductIDMM) {
@@ -172,9 +172,9 @@ func (l *Load) Add(odMM float64) {
 
 // FitsDuct reports whether one more cable of outside diameter cableODMM (mm) fits a duct of
 // internal diameter ductIDMM (mm) that already holds cables of the given ODs, pulled in that
-// order (Load.Takes; innerduct: they are innerducts, see PullLimit). It is false for invalid
+// order (Load.Takes; most: the duct's count of pulls, PullLimit). It is false for invalid
 // input.
-func FitsDuct(ductIDMM, cableODMM float64, existingODsMM []float64, innerduct bool) bool {
+func FitsDuct(ductIDMM, cableODMM float64, existingODsMM []float64, most int) bool {
 	var l Load
 	for _, od := range existingODsMM {
 		if !finite(od) || od <= 0 {
@@ -182,7 +182,7 @@ func FitsDuct(ductIDMM, cableODMM float64, existingODsMM []float64, innerduct bo
 		}
 		l.Add(od)
 	}
-	return l.Takes(ductIDMM, cableODMM, innerduct)
+	return l.Takes(ductIDMM, cableODMM, most)
 }
 
 // MaxBankDucts is the most ducts a DuctBank may have; more is taken as an input error.
@@ -198,9 +198,17 @@ type DuctBank struct {
 	IDMM  float64 // internal diameter of each duct, mm
 	// Innerduct says the cables placed are innerducts, each pulled in empty and holding one
 	// cable: a duct then takes as many as fill and the jam band allow (PullLimit); false,
-	// loose cables, at most SeparateCablesPerDuct to a duct.
+	// loose cables, at most CablesPerDuct to a duct.
 	Innerduct bool
+	// CablesPerDuct is the most loose cables a duct takes, one pull each (the plan's
+	// design.cables_per_duct, DefaultCablesPerDuct unless it says otherwise); 0: no count,
+	// fill and the jam band alone. Not read for innerducts.
+	CablesPerDuct int
 }
+
+// PullLimit is the bank's count of pulls a duct (PullLimit of Innerduct and CablesPerDuct;
+// 0: no count).
+func (b DuctBank) PullLimit() int { return PullLimit(b.Innerduct, b.CablesPerDuct) }
 
 // Assignment is how Assign, Pull or Spread placed cables into the ducts of a DuctBank.
 type Assignment struct {
@@ -236,7 +244,7 @@ func (b DuctBank) Assign(cableODsMM []float64) Assignment {
 // optimizer placed.
 //
 // Every duct is therefore within fill, free of jam risk and within its count of pulls
-// (PullLimit: for loose cables SeparateCablesPerDuct) after every placement, not only at the
+// (PullLimit: for loose cables CablesPerDuct) after every placement, not only at the
 // end; a third cable may be refused where a fourth would have restored compliance (two cables
 // are held to 31 %, three to 40 %). Invalid input gives OK false and a non-nil Err; it
 // never panics. Time O(n·Ducts) for n cables.
@@ -269,10 +277,11 @@ func (b DuctBank) pack(cableODsMM []float64, order []int) Assignment {
 	held := make([][]float64, b.Ducts)
 	a.Cables = make([][]int, b.Ducts)
 	loads := make([]Load, b.Ducts)
+	most := b.PullLimit()
 	for _, c := range order {
 		od := cableODsMM[c]
 		for d := range loads {
-			if loads[d].Takes(b.IDMM, od, b.Innerduct) {
+			if loads[d].Takes(b.IDMM, od, most) {
 				held[d] = append(held[d], od)
 				a.Cables[d] = append(a.Cables[d], c)
 				loads[d].Add(od)
@@ -300,15 +309,15 @@ func (b DuctBank) Fits(assignedODsMM []float64, odMM float64) bool {
 }
 
 // MaxCables is the number of cables of outside diameter odMM (mm) that Assign places in an
-// empty bank: the count one duct accepts cable by cable (at most PullLimit), times Ducts.
+// empty bank: the count one duct accepts cable by cable (at most its PullLimit), times Ducts.
 // The count per duct is capped at MaxCablesPerDuct. It is 0 for invalid input. Time O(1)
 // plus a few fill sums.
 func (b DuctBank) MaxCables(odMM float64) int {
 	if b.Ducts <= 0 || b.Ducts > MaxBankDucts || !finite(b.IDMM) || b.IDMM <= 0 || !finite(odMM) || odMM <= 0 {
 		return 0
 	}
-	per := 0
-	for per < 3 && FitsDuct(b.IDMM, odMM, slices.Repeat([]float64{odMM}, per), b.Innerduct) {
+	per, most := 0, b.PullLimit()
+	for per < 3 && FitsDuct(b.IDMM, odMM, slices.Repeat([]float64{odMM}, per), most) {
 		per++
 	}
 	if per == 3 {
@@ -321,7 +330,9 @@ func (b DuctBank) MaxCables(odMM float64) int {
 		for per < MaxCablesPerDuct && b.fillOK(odMM, per+1) {
 			per++
 		}
-		per = min(per, PullLimit(b.Innerduct))
+		if most > 0 {
+			per = min(per, most)
+		}
 	}
 	return per * b.Ducts
 }

@@ -188,7 +188,7 @@ func TestFitsDuct(t *testing.T) {
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
-			if got := FitsDuct(id, tc.od, tc.existing, false); got != tc.want {
+			if got := FitsDuct(id, tc.od, tc.existing, DefaultCablesPerDuct); got != tc.want {
 				t.Errorf("%s: got %v, want %v", tc.name, got, tc.want)
 			}
 		})
@@ -198,7 +198,7 @@ func TestFitsDuct(t *testing.T) {
 func TestDuctBankAssign(t *testing.T) {
 	t.Parallel()
 	const id = 4 * 25.4 // 4 in nominal duct
-	bank := DuctBank{Ducts: 2, IDMM: id}
+	bank := DuctBank{CablesPerDuct: DefaultCablesPerDuct, Ducts: 2, IDMM: id}
 	big := odForPct(id, 1, 50)     // alone in a duct
 	small := odForPct(id, 1, 10.5) // three share a duct at 31.5 % (1.05·D/d = 3.24, no jam), four would fill 42 %
 	cases := []struct {
@@ -213,7 +213,7 @@ func TestDuctBankAssign(t *testing.T) {
 		{"smalls share the first duct", []float64{small, small, small}, []int{0, 0, 0}, 0},
 		{"fourth small to the second duct", []float64{small, small, small, small}, []int{0, 0, 0, 1}, 0},
 		// Tiny cables the fill would let dozens share one duct: three to a duct, one pull
-		// each (SeparateCablesPerDuct, common practice, no published source), the seventh in none.
+		// each (DefaultCablesPerDuct, common practice, no published source), the seventh in none.
 		{"three loose cables to a duct", slices.Repeat([]float64{6}, 7), []int{0, 0, 0, 1, 1, 1, -1}, 1},
 	}
 	for _, tc := range cases {
@@ -244,7 +244,7 @@ func TestDuctBankAssign(t *testing.T) {
 
 func TestDuctBankOrderIndependent(t *testing.T) {
 	t.Parallel()
-	bank := DuctBank{Ducts: 3, IDMM: 78}
+	bank := DuctBank{CablesPerDuct: DefaultCablesPerDuct, Ducts: 3, IDMM: 78}
 	ods := []float64{22, 15.5, 30, 15.5, 9, 22, 41, 12}
 	want := bank.Assign(ods)
 	rev := slices.Clone(ods)
@@ -269,20 +269,26 @@ func TestDuctBankCapacity(t *testing.T) {
 		want int
 	}{
 		// computed from NFPA 70 Chapter 9 Table 1: (D/d)² = 4: 1 → 25 %, 2 → 50 % > 31 %
-		{"half-diameter cable", DuctBank{Ducts: 4, IDMM: 100}, 50, 4},
+		{"half-diameter cable", DuctBank{CablesPerDuct: DefaultCablesPerDuct, Ducts: 4, IDMM: 100}, 50, 4},
 		// (D/d)² = 16: 2 → 12.5 %, 3 → 18.75 % (1.05·D/d = 4.2, no jam), 6 → 37.5 %, 7 → 43.75 %;
-		// loose cables stop at three a duct (SeparateCablesPerDuct, common practice, no published
+		// loose cables stop at three a duct (DefaultCablesPerDuct, common practice, no published
 		// source), innerducts, pulled in empty, at the fill
-		{"quarter-diameter cable", DuctBank{Ducts: 2, IDMM: 100}, 25, 6},
-		{"quarter-diameter innerduct", DuctBank{Ducts: 2, IDMM: 100, Innerduct: true}, 25, 12},
+		{"quarter-diameter cable", DuctBank{CablesPerDuct: DefaultCablesPerDuct, Ducts: 2, IDMM: 100}, 25, 6},
+		{"quarter-diameter innerduct", DuctBank{CablesPerDuct: DefaultCablesPerDuct, Ducts: 2, IDMM: 100, Innerduct: true}, 25, 12},
 		// 1.05·D/d = 2.9: two fit (26 %), the third would fill 39.3 % but jam
-		{"jam-prone cable", DuctBank{Ducts: 3, IDMM: 100}, JamBendFactor * 100 / 2.9, 6},
-		{"no spare duct", DuctBank{Ducts: 0, IDMM: 100}, 25, 0},
+		{"jam-prone cable", DuctBank{CablesPerDuct: DefaultCablesPerDuct, Ducts: 3, IDMM: 100}, JamBendFactor * 100 / 2.9, 6},
+		{"no spare duct", DuctBank{CablesPerDuct: DefaultCablesPerDuct, Ducts: 0, IDMM: 100}, 25, 0},
 		// computed: 0.40 × (100/0.11)² = 330 578.5, so 330 578 innerducts per duct; three cables
-		{"hair-thin innerduct", DuctBank{Ducts: 2, IDMM: 100, Innerduct: true}, 0.11, 661156},
-		{"hair-thin cable", DuctBank{Ducts: 2, IDMM: 100}, 0.11, 6},
-		{"too many ducts", DuctBank{Ducts: 1001, IDMM: 100}, 25, 0},
-		{"bad OD", DuctBank{Ducts: 2, IDMM: 100}, -1, 0},
+		{"hair-thin innerduct", DuctBank{CablesPerDuct: DefaultCablesPerDuct, Ducts: 2, IDMM: 100, Innerduct: true}, 0.11, 661156},
+		{"hair-thin cable", DuctBank{CablesPerDuct: DefaultCablesPerDuct, Ducts: 2, IDMM: 100}, 0.11, 6},
+		{"too many ducts", DuctBank{CablesPerDuct: DefaultCablesPerDuct, Ducts: 1001, IDMM: 100}, 25, 0},
+		{"bad OD", DuctBank{CablesPerDuct: DefaultCablesPerDuct, Ducts: 2, IDMM: 100}, -1, 0},
+		// design.cables_per_duct: 0 is the fill alone (6 quarter-diameter cables a duct,
+		// 37.5 %, as innerducts), 2 two a duct, 5 five (within the fill's six)
+		{"quarter-diameter cable, fill alone", DuctBank{Ducts: 2, IDMM: 100}, 25, 12},
+		{"quarter-diameter cable, two a duct", DuctBank{CablesPerDuct: 2, Ducts: 2, IDMM: 100}, 25, 4},
+		{"quarter-diameter cable, five a duct", DuctBank{CablesPerDuct: 5, Ducts: 2, IDMM: 100}, 25, 10},
+		{"quarter-diameter cable, a hundred a duct", DuctBank{CablesPerDuct: 100, Ducts: 2, IDMM: 100}, 25, 12},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
@@ -320,7 +326,7 @@ func TestFillBadInput(t *testing.T) {
 		t.Errorf("bad fill: got %v, want errors for duct, cable 1 and cable 2", list)
 	}
 
-	a := DuctBank{Ducts: -1, IDMM: 100}.Assign([]float64{10, math.Inf(1)})
+	a := DuctBank{CablesPerDuct: DefaultCablesPerDuct, Ducts: -1, IDMM: 100}.Assign([]float64{10, math.Inf(1)})
 	if a.OK || a.Unplaced != 2 || !errors.Is(a.Err, ErrBadInput) || !slices.Equal(a.DuctOf, []int{-1, -1}) {
 		t.Errorf("bad bank: got %+v, want nothing placed and ErrBadInput", a)
 	}
@@ -333,7 +339,7 @@ func TestFillBadInput(t *testing.T) {
 // one cable to 53 %, two to 31 %, three or more to 40 % of the duct's area, and a third cable of
 // the same size (spread within 5 %, common practice, no published source) is refused when 1.05·D/d
 // lies in 2.8–3.2 (NFPA 70 Chapter 9 Table 1 Informational Note No. 2, seen). A duct takes no
-// fourth loose cable, one pull each (SeparateCablesPerDuct: common practice, no published
+// fourth loose cable, one pull each (DefaultCablesPerDuct: common practice, no published
 // source); innerducts, pulled in empty, are held to the fill alone. MayJam says which ducts
 // Takes may refuse for the jam alone.
 func TestLoadTakes(t *testing.T) {
@@ -372,19 +378,19 @@ func TestLoadTakes(t *testing.T) {
 	}
 	for _, tc := range cases {
 		l := load(tc.held...)
-		if got := l.Takes(tc.idMM, tc.odMM, tc.innerduct); got != tc.takes {
+		if got := l.Takes(tc.idMM, tc.odMM, PullLimit(tc.innerduct, DefaultCablesPerDuct)); got != tc.takes {
 			t.Errorf("%s: Takes got %v, want %v", tc.name, got, tc.takes)
 		}
 		if got := l.MayJam(); got != tc.mayJam {
 			t.Errorf("%s: MayJam got %v, want %v", tc.name, got, tc.mayJam)
 		}
-		if got := FitsDuct(tc.idMM, tc.odMM, tc.held, tc.innerduct); got != tc.takes {
+		if got := FitsDuct(tc.idMM, tc.odMM, tc.held, PullLimit(tc.innerduct, DefaultCablesPerDuct)); got != tc.takes {
 			t.Errorf("%s: FitsDuct got %v, want %v", tc.name, got, tc.takes)
 		}
 	}
 }
 
-// TestCrowded: more than SeparateCablesPerDuct loose cables in a duct is crowded (common
+// TestCrowded: more than DefaultCablesPerDuct loose cables in a duct is crowded (common
 // practice, no published source); cables each in an innerduct never are. Crowded is the
 // count Takes keeps every packing to (PullLimit).
 func TestCrowded(t *testing.T) {
@@ -393,16 +399,16 @@ func TestCrowded(t *testing.T) {
 		cables    int
 		innerduct bool
 		want      bool
-	}{{1, false, false}, {SeparateCablesPerDuct, false, false}, {SeparateCablesPerDuct + 1, false, true}, {37, false, true}, {37, true, false}} {
-		if got := Crowded(tc.cables, tc.innerduct); got != tc.want {
+	}{{1, false, false}, {DefaultCablesPerDuct, false, false}, {DefaultCablesPerDuct + 1, false, true}, {37, false, true}, {37, true, false}} {
+		if got := Crowded(tc.cables, PullLimit(tc.innerduct, DefaultCablesPerDuct)); got != tc.want {
 			t.Errorf("%d cables, innerduct %v: crowded %v, want %v", tc.cables, tc.innerduct, got, tc.want)
 		}
-		if note := CrowdedNote(tc.cables, tc.innerduct); (note != "") != tc.want {
+		if note := CrowdedNote(tc.cables, PullLimit(tc.innerduct, DefaultCablesPerDuct)); (note != "") != tc.want {
 			t.Errorf("%d cables, innerduct %v: note %q", tc.cables, tc.innerduct, note)
 		}
 		if tc.cables > 0 {
 			l := Load{Cables: tc.cables - 1}
-			if takes := l.Takes(100, 0.5, tc.innerduct); takes == tc.want {
+			if takes := l.Takes(100, 0.5, PullLimit(tc.innerduct, DefaultCablesPerDuct)); takes == tc.want {
 				t.Errorf("%d cables, innerduct %v: the duct holding %d takes a thin cable %v, crowded %v", tc.cables, tc.innerduct, tc.cables-1, takes, tc.want)
 			}
 		}

@@ -14,8 +14,9 @@ import (
 //
 // prefer (nil, or one entry per cable) gives each cable the duct it holds on the span it comes
 // from, -1 for none: a cable carried on keeps its duct, placed before the others, where that
-// duct takes it and holds fewer than SeparateCablesPerDuct cables (or an even share of the
-// cables over the ducts, when that is more: innerducts, which PullLimit does not count), or,
+// duct takes it and holds fewer than CablesPerDuct cables (or an even share of the cables over
+// the ducts, when that is more: innerducts, which PullLimit does not count, hold to it too),
+// or,
 // in a second packing, where it takes it at all; the others go first fit. Each is tried in
 // pull order and largest first (a large cable may need a duct of its own). Of first fit and
 // these, Spread keeps the packing that places every cable first fit placed with the fewest
@@ -59,7 +60,7 @@ func (b DuctBank) Spread(cableODsMM []float64, prefer []int) Assignment {
 	})
 	// A cable carried on keeps its duct while the duct holds fewer than a sound set of pulls
 	// (or an even share of the cables, when that is more), or while it takes it at all.
-	share := max(SeparateCablesPerDuct, (len(placed)+b.Ducts-1)/max(b.Ducts, 1))
+	share := max(b.CablesPerDuct, (len(placed)+b.Ducts-1)/max(b.Ducts, 1))
 	for _, most := range []int{share, math.MaxInt} {
 		for _, order := range [][]int{placed, largest} {
 			if bestMissed == 0 {
@@ -91,6 +92,7 @@ func (b DuctBank) preferred(cableODsMM []float64, order []int, prefer []int, mos
 	held := make([][]float64, b.Ducts)
 	a.Cables = make([][]int, b.Ducts)
 	loads := make([]Load, b.Ducts)
+	pulls := b.PullLimit()
 	put := func(c, d int) {
 		held[d] = append(held[d], cableODsMM[c])
 		a.Cables[d] = append(a.Cables[d], c)
@@ -98,7 +100,7 @@ func (b DuctBank) preferred(cableODsMM []float64, order []int, prefer []int, mos
 		a.DuctOf[c] = d
 	}
 	for _, c := range order {
-		if d := prefer[c]; d >= 0 && d < b.Ducts && loads[d].Cables < most && loads[d].Takes(b.IDMM, cableODsMM[c], b.Innerduct) {
+		if d := prefer[c]; d >= 0 && d < b.Ducts && loads[d].Cables < most && loads[d].Takes(b.IDMM, cableODsMM[c], pulls) {
 			put(c, d)
 		}
 	}
@@ -108,7 +110,7 @@ func (b DuctBank) preferred(cableODsMM []float64, order []int, prefer []int, mos
 		}
 		at := -1
 		for d := range loads {
-			if loads[d].Takes(b.IDMM, cableODsMM[c], b.Innerduct) {
+			if loads[d].Takes(b.IDMM, cableODsMM[c], pulls) {
 				at = d
 				break
 			}

@@ -164,8 +164,11 @@ type DuctFill struct {
 	// (a leg of two cables twice), in the order the packing was given them: the optimizer's
 	// link order on a span it limits, leg order on new construction (CablesODMM is in the
 	// order placed, largest first on new construction).
-	Legs       []string
-	Innerduct  bool    // the occupants are innerducts, one per cable (design.innerduct_od_mm)
+	Legs      []string
+	Innerduct bool // the occupants are innerducts, one per cable (design.innerduct_od_mm)
+	// Pulls is the count of pulls the packing kept the duct to (install.PullLimit: the
+	// design's cables_per_duct for loose cables; 0: no count, innerducts or fill alone).
+	Pulls      int
 	FillPct    float64 // occupants' area as a percentage of the duct's area
 	AllowedPct float64 // 53, 31 or 40 % for 1, 2 or more cables
 	OK         bool
@@ -178,6 +181,10 @@ type DuctFill struct {
 	Unplaced bool
 }
 
+// Crowded reports whether the duct holds more separate cables than its count of pulls
+// (install.Crowded); false for cables that fit no duct.
+func (f DuctFill) Crowded() bool { return !f.Unplaced && install.Crowded(len(f.CablesODMM), f.Pulls) }
+
 // Note is what an installer is told of the duct: that too many separate cables are pulled into
 // it (install.CrowdedNote); "" for none or for cables that fit no duct. The packing keeps to
 // the count (install.Load.Takes), so a planned duct has none: the note is a check.
@@ -185,7 +192,7 @@ func (f DuctFill) Note() string {
 	if f.Unplaced {
 		return ""
 	}
-	return install.CrowdedNote(len(f.CablesODMM), f.Innerduct)
+	return install.CrowdedNote(len(f.CablesODMM), f.Pulls)
 }
 
 // Connectivity is what one building terminates: fibre strands on adapter panels in
@@ -262,6 +269,32 @@ type Construction struct {
 	// than the design lays (items.NewDucts), in the order the plan opened them. Their ducts
 	// are all in AddedDuctM, laid in the span's one trench or bore.
 	SizedDucts []SizedDucts
+	// ForCount is the new work the plan lays only for the count of pulls
+	// (design.cables_per_duct): computed once here, from each span's routing.ForCount, and
+	// printed from here everywhere (terminal, summary.json, report).
+	ForCount CountWork
+}
+
+// CountWork is the new work laid only because of the count of pulls a duct
+// (design.cables_per_duct, install.PullLimit): ducts beside existing banks and in opened
+// duct spans, and trench or bore beside existing banks, that the NFPA 70 Chapter 9 Table 1
+// fill and the jam band alone would not need on the plan's routes (routing.ForCount: the
+// same cables packed both ways; the optimizer might route otherwise without the count).
+type CountWork struct {
+	DuctM   float64 // duct metres laid for the count (in AddedDuctM)
+	TrenchM float64 // metres of trench or bore beside existing banks laid for the count (in NewM)
+	Cents   int64   // what they cost, as the optimizer prices them (optimize.Edge.AddedCents)
+	Spans   []CountSpan
+}
+
+// CountSpan is one span where the count of pulls lays new work: Ducts ducts of LengthM,
+// and the trench or bore beside the span when Trench.
+type CountSpan struct {
+	Span    string
+	Ducts   int
+	Trench  bool
+	LengthM float64
+	Cents   int64
 }
 
 // SizedDucts is an opened duct span that gets more ducts than the design's new_ducts:
@@ -745,7 +778,7 @@ func (r *run) lateralEnd(b, id string, sp *geo.Span) (own, carried geo.Entry) {
 // the chosen cables' outside diameters, in the optimizer's order (routing.SegmentFill.Links),
 // and the ducts of new construction. Which cable goes in which duct is install.DuctBank.Spread:
 // the cables first fit places (install.DuctBank.Pull, as the optimizer packs them, in the
-// ducts it counted: at most 3 loose cables a duct, install.PullLimit), each carried on in the
+// ducts it counted: at most design.cables_per_duct loose cables a duct, install.PullLimit), each carried on in the
 // duct it holds on the span before where that duct takes it. Cables that fit no duct get a row
 // of their own, not OK.
 func (r *run) ductFill() {
@@ -821,6 +854,7 @@ func (r *run) ductFill() {
 		}
 		return out
 	}
+	pulls := install.PullLimit(design.Innerduct(), design.CablesPerDuct) // as every packing's
 	// pack fills the ducts of a span, existing ones first; ducts from `added` on are new.
 	pack := func(sp *geo.Span, added int, a install.Assignment, ods []float64, legs []string, hint string) {
 		if a.Err != nil {
@@ -832,7 +866,7 @@ func (r *run) ductFill() {
 				continue
 			}
 			e.Fill = append(e.Fill, DuctFill{Span: sp.ID, PathwayID: sp.PathwayID, Duct: d + 1, Added: d >= added,
-				DuctIDMM: sp.DuctMM, CablesODMM: df.CablesODMM, Legs: legsIn(a, legs, d), Innerduct: design.Innerduct(), FillPct: df.Pct, AllowedPct: df.AllowedPct,
+				DuctIDMM: sp.DuctMM, CablesODMM: df.CablesODMM, Legs: legsIn(a, legs, d), Innerduct: design.Innerduct(), Pulls: pulls, FillPct: df.Pct, AllowedPct: df.AllowedPct,
 				OK: df.OK && !df.JamRisk, JamRatio: df.JamRatio, JamRisk: df.JamRisk})
 		}
 		if a.Unplaced > 0 {
@@ -845,7 +879,7 @@ func (r *run) ductFill() {
 				}
 			}
 			e.Fill = append(e.Fill, DuctFill{Span: sp.ID, PathwayID: sp.PathwayID, DuctIDMM: sp.DuctMM, CablesODMM: left,
-				Legs: legsIn(a, legs, -1), Innerduct: design.Innerduct(), Unplaced: true})
+				Legs: legsIn(a, legs, -1), Innerduct: design.Innerduct(), Pulls: pulls, Unplaced: true})
 		}
 	}
 	// Every span of limited capacity, new construction among them: its ducts are the spare
@@ -866,7 +900,7 @@ func (r *run) ductFill() {
 		if f.Limited {
 			sp, _ := r.Site.Net.Span(f.Span)
 			ods, legs := cables(f.Span, f.Links)
-			spans = append(spans, &limited{f: f, sp: sp, bank: install.DuctBank{Ducts: f.Ducts + f.AddedDucts, IDMM: sp.DuctMM, Innerduct: design.Innerduct()}, ods: ods, legs: legs})
+			spans = append(spans, &limited{f: f, sp: sp, bank: install.DuctBank{Ducts: f.Ducts + f.AddedDucts, IDMM: sp.DuctMM, Innerduct: design.Innerduct(), CablesPerDuct: design.CablesPerDuct}, ods: ods, legs: legs})
 		}
 	}
 	// A cable carried on from one span into the next of its leg in the same duct (geo's
@@ -1338,6 +1372,17 @@ func (r *run) construction() {
 				r.newFrom[keyDuctWall] = append(r.newFrom[keyDuctWall], fromSpan(f.Span))
 			}
 			c.holeWalls(s, &sp, r.newFrom)
+		}
+	}
+	for _, f := range r.Fill {
+		if fc := f.ForCount; fc.Ducts > 0 || fc.Trench || fc.Cents > 0 {
+			sp, _ := s.Net.Span(f.Span)
+			c.ForCount.Spans = append(c.ForCount.Spans, CountSpan{Span: f.Span, Ducts: fc.Ducts, Trench: fc.Trench, LengthM: sp.LengthM, Cents: fc.Cents})
+			c.ForCount.DuctM += float64(fc.Ducts) * sp.LengthM
+			if fc.Trench {
+				c.ForCount.TrenchM += sp.LengthM
+			}
+			c.ForCount.Cents += fc.Cents
 		}
 	}
 	c.listPieces()

@@ -33,7 +33,7 @@ func sixFan(spare int) string {
 
 // TestSpreadOverSpareDucts: six cables cross T, far within NFPA 70 Chapter 9 Table 1 fill of
 // one 100 mm duct (40 % for more than two cables), so fill alone would pull all six into its
-// first spare duct. More than install.SeparateCablesPerDuct (3) loose cables in one duct is not
+// first spare duct. More than install.DefaultCablesPerDuct (3) loose cables in one duct is not
 // a sound set of pulls (common practice, no published source): with two or three spare ducts
 // T's cables go three to a duct and the third spare duct stays empty; with one spare duct the
 // optimizer lays a trench beside T with the design's two ducts (new_ducts) and the second three
@@ -74,7 +74,7 @@ func TestSpreadOverSpareDucts(t *testing.T) {
 			if !slices.Equal(got, tc.want) || !slices.Equal(added, tc.wantAdded) {
 				t.Errorf("cables per duct of T %v (added %v), want %v (added %v)", got, added, tc.want, tc.wantAdded)
 			}
-			if install.Crowded(slices.Max(got), false) {
+			if install.Crowded(slices.Max(got), install.DefaultCablesPerDuct) {
 				t.Errorf("a duct of T crowded: %v", got)
 			}
 		})

@@ -5,6 +5,8 @@ import (
 	"math"
 	"sync"
 	"testing"
+
+	"spanwright/media/install"
 )
 
 var (
@@ -148,7 +150,7 @@ func BenchmarkDuctPack(b *testing.B) {
 			b.Run(fmt.Sprintf("innerduct_%v_cables_%d", innerduct, n), func(b *testing.B) {
 				var p ductPack
 				for b.Loop() {
-					p.reset(100, innerduct)
+					p.reset(100, install.PullLimit(innerduct, install.DefaultCablesPerDuct))
 					for range n {
 						if !p.place(10) {
 							b.Fatal("a 10 mm cable fits no 100 mm duct")

@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+
+	"spanwright/media/install"
 )
 
 // campusSpec describes a synthetic campus for tests and benchmarks.
@@ -42,6 +44,7 @@ func campus(cs campusSpec) *Problem {
 			LabourPerMCents: 800, Group: g, Flags: FlagOutdoor}
 		if cs.capacity && idMM > 0 {
 			e.DuctIDMM, e.Ducts, e.AddDuctPerMCents = idMM, ducts, 4500
+			e.CablesPerDuct = install.DefaultCablesPerDuct // the plan's default
 		}
 		p.Edges = append(p.Edges, e)
 	}

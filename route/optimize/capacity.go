@@ -17,7 +17,8 @@ func FillLimit(n int) float64 { return install.AllowedFillPct(max(n, 1)) / 100 }
 
 // ductPack is the state of first-fit packing of cables into ducts of one diameter, each duct
 // taking a cable by install.Load.Takes (fill, the jam check for a third cable, and the count
-// of pulls: install.PullLimit, three loose cables a duct, no count for innerducts), the rule
+// of pulls: Edge.PullLimit, the plan's design.cables_per_duct loose cables a duct, no count
+// for innerducts or a plan of fill alone), the rule
 // the bill's duct fill check packs by. A max segment tree over the ducts' free area finds the
 // first duct with room for a cable in O(log ducts), which matters when thousands of cables
 // share a duct bank; a duct at its count of pulls has no room in it. A duct that may jam a
@@ -26,13 +27,13 @@ func FillLimit(n int) float64 { return install.AllowedFillPct(max(n, 1)) / 100 }
 // and its lowest duct is the one first fit would try. Placing a cable is then O(log ducts + groups), however many ducts hold a pair
 // that refuses it (innerducts of one size, two to a duct, on a trunk).
 type ductPack struct {
-	ductIDMM  float64
-	innerduct bool           // the cables are innerducts (Edge.Innerduct): no count of pulls
-	areaMM2   float64        // one duct's internal area
-	load      []install.Load // per duct: what it holds
-	seg       []float64      // seg[1] is the root; leaves seg[size+j] hold duct j's room
-	size      int
-	twos      []twoGroup // the ducts that may jam a third cable, by the two cables they hold
+	ductIDMM float64
+	most     int            // the count of pulls a duct (Edge.PullLimit); 0: none
+	areaMM2  float64        // one duct's internal area
+	load     []install.Load // per duct: what it holds
+	seg      []float64      // seg[1] is the root; leaves seg[size+j] hold duct j's room
+	size     int
+	twos     []twoGroup // the ducts that may jam a third cable, by the two cables they hold
 }
 
 // twoGroup is the ducts holding the same two cables of one size (install.Load.MayJam).
@@ -53,9 +54,9 @@ func (p *ductPack) room(j int) float64 {
 }
 
 // roomOf is the area a duct holding l has for one more cable by fill alone, or -Inf at its
-// count of pulls (install.PullLimit, which Takes keeps to).
+// count of pulls (Edge.PullLimit, which Takes keeps to).
 func (p *ductPack) roomOf(l *install.Load) float64 {
-	if l.Cables >= install.PullLimit(p.innerduct) {
+	if p.most > 0 && l.Cables >= p.most {
 		return math.Inf(-1)
 	}
 	return FillLimit(l.Cables+1)*p.areaMM2 - l.UsedMM2
@@ -75,10 +76,10 @@ func (p *ductPack) maxRoom() float64 {
 	return m
 }
 
-// reset empties the packing for ducts of internal diameter ductIDMM taking innerducts
-// (innerduct) or loose cables.
-func (p *ductPack) reset(ductIDMM float64, innerduct bool) {
-	p.ductIDMM, p.innerduct, p.areaMM2, p.load, p.twos = ductIDMM, innerduct, circleMM2(ductIDMM), p.load[:0], p.twos[:0]
+// reset empties the packing for ducts of internal diameter ductIDMM, each taking at most most
+// cables (Edge.PullLimit; 0: no count).
+func (p *ductPack) reset(ductIDMM float64, most int) {
+	p.ductIDMM, p.most, p.areaMM2, p.load, p.twos = ductIDMM, most, circleMM2(ductIDMM), p.load[:0], p.twos[:0]
 	for i := range p.seg {
 		p.seg[i] = math.Inf(-1)
 	}
@@ -86,13 +87,13 @@ func (p *ductPack) reset(ductIDMM float64, innerduct bool) {
 
 // copyFrom makes p the packing saved in s, for the ducts of edge e.
 func (p *ductPack) copyFrom(s *packState, e *Edge) {
-	p.ductIDMM, p.innerduct, p.areaMM2 = e.DuctIDMM, e.Innerduct, circleMM2(e.DuctIDMM)
+	p.ductIDMM, p.most, p.areaMM2 = e.DuctIDMM, e.PullLimit(), circleMM2(e.DuctIDMM)
 	p.copyParts(s.load, s.seg, s.size, s.twos)
 }
 
 // copyOf makes p a copy of packing q.
 func (p *ductPack) copyOf(q *ductPack) {
-	p.ductIDMM, p.innerduct, p.areaMM2 = q.ductIDMM, q.innerduct, q.areaMM2
+	p.ductIDMM, p.most, p.areaMM2 = q.ductIDMM, q.most, q.areaMM2
 	p.copyParts(q.load, q.seg, q.size, q.twos)
 }
 
@@ -191,7 +192,7 @@ func (p *ductPack) place(odMM float64) bool {
 		if j < 0 {
 			break
 		}
-		if p.load[j].Takes(p.ductIDMM, odMM, p.innerduct) {
+		if p.load[j].Takes(p.ductIDMM, odMM, p.most) {
 			best = j
 			break
 		}
@@ -199,12 +200,12 @@ func (p *ductPack) place(odMM float64) bool {
 	}
 	for i := range p.twos {
 		g := &p.twos[i]
-		if len(g.ducts) > 0 && (best < 0 || int(g.ducts[0]) < best) && g.load.Takes(p.ductIDMM, odMM, p.innerduct) {
+		if len(g.ducts) > 0 && (best < 0 || int(g.ducts[0]) < best) && g.load.Takes(p.ductIDMM, odMM, p.most) {
 			best, group = int(g.ducts[0]), i
 		}
 	}
 	if best < 0 {
-		if !(install.Load{}).Takes(p.ductIDMM, odMM, p.innerduct) {
+		if !(install.Load{}).Takes(p.ductIDMM, odMM, p.most) {
 			return false
 		}
 		p.open(odMM)
@@ -292,14 +293,14 @@ func heapPop(h *[]int32) {
 // NFPAFits reports whether cables of the given outside diameters (mm) fit in ducts ducts of
 // internal diameter ductIDMM, placing them first-fit in the given order by install.Load.Takes:
 // each duct held to the NFPA 70 Chapter 9 Table 1 fill for its cable count (53 % one, 31 % two,
-// 40 % three or more), no third cable that would jam, and, for loose cables (innerduct false),
-// at most install.SeparateCablesPerDuct to a duct (one pull each: common practice, no
-// published source). First-fit in a fixed order is a packing rule, not an optimal bin
+// 40 % three or more), no third cable that would jam, and at most most cables to a duct (the
+// count of pulls, Edge.PullLimit: the plan's design.cables_per_duct loose cables, one pull
+// each, common practice, no published source; 0: no count). First-fit in a fixed order is a packing rule, not an optimal bin
 // packing: it may use a duct more than the best arrangement would. install.DuctBank.Pull
 // places the same cables in the same ducts.
-func NFPAFits(ductIDMM float64, cableODsMM []float64, ducts int, innerduct bool) bool {
+func NFPAFits(ductIDMM float64, cableODsMM []float64, ducts int, most int) bool {
 	var p ductPack
-	p.reset(ductIDMM, innerduct)
+	p.reset(ductIDMM, most)
 	for _, od := range cableODsMM {
 		if !p.place(od) || len(p.load) > ducts {
 			return false
@@ -367,7 +368,7 @@ func (c *capacity) needed(e int, ods []float64, cnt []int32, pack *ductPack) (ad
 		if pack != nil {
 			p = pack
 		}
-		p.reset(ed.DuctIDMM, ed.Innerduct)
+		p.reset(ed.DuctIDMM, ed.PullLimit())
 		if !placeAll(p, ods, cnt) {
 			return 0, false
 		}
@@ -423,7 +424,7 @@ func (c *capacity) prefixNeeds(e int, ods []float64, cnt []int32) []int {
 	}
 	ed := &c.edges[e]
 	p := &c.pack
-	p.reset(ed.DuctIDMM, ed.Innerduct)
+	p.reset(ed.DuctIDMM, ed.PullLimit())
 	failed := false
 	for i, od := range ods {
 		for range countAt(cnt, i) {
@@ -445,7 +446,7 @@ func (c *capacity) prefixNeeds(e int, ods []float64, cnt []int32) []int {
 // packing first-fit in order on edge ed (install.Load.Takes), in mm².
 func (c *capacity) allowedArea(ed *Edge, ods []float64, cnt []int32) (usedMM2, allowedMM2 float64) {
 	p := &c.pack
-	p.reset(ed.DuctIDMM, ed.Innerduct)
+	p.reset(ed.DuctIDMM, ed.PullLimit())
 	for i, od := range ods {
 		for range countAt(cnt, i) {
 			usedMM2 += circleMM2(od)
@@ -461,9 +462,9 @@ func (c *capacity) allowedArea(ed *Edge, ods []float64, cnt []int32) (usedMM2, a
 }
 
 // NFPAFitsFor returns the FitsFunc Solve uses when Problem.Fits is nil: NFPAFits with each
-// edge's DuctIDMM and Innerduct, for callers that wrap or compare with the default rule.
+// edge's DuctIDMM and PullLimit, for callers that wrap or compare with the default rule.
 func NFPAFitsFor(edges []Edge) FitsFunc {
 	return func(edge int, cableODsMM []float64, ducts int) bool {
-		return NFPAFits(edges[edge].DuctIDMM, cableODsMM, ducts, edges[edge].Innerduct)
+		return NFPAFits(edges[edge].DuctIDMM, cableODsMM, ducts, edges[edge].PullLimit())
 	}
 }

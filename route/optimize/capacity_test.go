@@ -15,8 +15,9 @@ import (
 // cables 100·√(0.4/3) = 36.51 mm (computed). Three equal cables of 32.8 to 37.5 mm are jam-prone in
 // a 100 mm duct (1.05·D/d from 2.8 to 3.2, NFPA 70 Chapter 9 Table 1 Informational Note No. 2,
 // seen; the 1.05 is common practice, no published source), so three unequal ones test 40 %.
-// Loose cables go at most three to a duct, one pull each (install.SeparateCablesPerDuct, common
-// practice, no published source); innerducts, pulled in empty, are held to the fill alone.
+// Loose cables go at most three to a duct, one pull each (install.DefaultCablesPerDuct, common
+// practice, no published source), or as many as the plan's design.cables_per_duct says, 0 for
+// no count; innerducts, pulled in empty, are held to the fill alone.
 func TestNFPAFits(t *testing.T) {
 	t.Parallel()
 	cases := []struct {
@@ -51,17 +52,33 @@ func TestNFPAFits(t *testing.T) {
 		{"innerducts over 40 %", slices.Repeat([]float64{13}, 24), 1, false, true},   // 40.6 % (computed)
 	}
 	for _, tc := range cases {
-		if got := NFPAFits(100, tc.ods, tc.ducts, tc.innerduct); got != tc.want {
+		if got := NFPAFits(100, tc.ods, tc.ducts, install.PullLimit(tc.innerduct, install.DefaultCablesPerDuct)); got != tc.want {
 			t.Errorf("%s: NFPAFits(100, %v, %d, innerduct %v) got %v, want %v", tc.name, tc.ods, tc.ducts, tc.innerduct, got, tc.want)
+		}
+	}
+	// Another design.cables_per_duct: 0 is the fill alone (NFPA 70 Chapter 9 Table 1: 7·13²
+	// is 11.8 % of the area, 23 are 38.9 % and 24 40.6 %, computed); 2 gives seven loose
+	// cables four ducts, 3 three.
+	for _, tc := range []struct {
+		perDuct, cables, ducts int
+		want                   bool
+	}{
+		{0, 7, 1, true}, {0, 23, 1, true}, {0, 24, 1, false}, {0, 24, 2, true},
+		{2, 7, 3, false}, {2, 7, 4, true}, {3, 7, 2, false}, {3, 7, 3, true}, {7, 7, 1, true}, {6, 7, 1, false},
+	} {
+		if got := NFPAFits(100, slices.Repeat([]float64{13}, tc.cables), tc.ducts, install.PullLimit(false, tc.perDuct)); got != tc.want {
+			t.Errorf("cables_per_duct %d: %d loose 13 mm cables in %d ducts: fits %v, want %v", tc.perDuct, tc.cables, tc.ducts, got, tc.want)
 		}
 	}
 }
 
-// capNet: node 0 to node 2 by a short existing duct bank (edge 0, then edge 1) or a long
-// way round (edges 2 and 3, no duct data).
+// capNet: node 0 to node 2 by a short existing duct bank (edge 0, then edge 1; three loose
+// cables a duct, install.DefaultCablesPerDuct) or a long way round (edges 2 and 3, no duct
+// data).
 func capNet(spare int, addPerM int64) []Edge {
 	return []Edge{
-		{ID: "short-a", From: 0, To: 1, LengthM: 50, LabourPerMCents: 500, DuctIDMM: 50, Ducts: spare, AddDuctPerMCents: addPerM},
+		{ID: "short-a", From: 0, To: 1, LengthM: 50, LabourPerMCents: 500, DuctIDMM: 50, Ducts: spare, AddDuctPerMCents: addPerM,
+			CablesPerDuct: install.DefaultCablesPerDuct},
 		{ID: "short-b", From: 1, To: 2, LengthM: 50, LabourPerMCents: 500},
 		{ID: "long-a", From: 0, To: 3, LengthM: 150, LabourPerMCents: 500},
 		{ID: "long-b", From: 3, To: 2, LengthM: 150, LabourPerMCents: 500},
@@ -245,6 +262,8 @@ func TestPackIsPull(t *testing.T) {
 	for trial := range 3000 {
 		ductIDMM := []float64{29, 50, 100, 103}[rng.IntN(4)]
 		innerduct := rng.IntN(2) == 0
+		perDuct := rng.IntN(5) // design.cables_per_duct: 0 (fill alone) to 4
+		most := install.PullLimit(innerduct, perDuct)
 		ods := make([]float64, rng.IntN(40))
 		for i := range ods {
 			ods[i] = sizes[rng.IntN(len(sizes))]
@@ -253,14 +272,14 @@ func TestPackIsPull(t *testing.T) {
 			}
 		}
 		var p ductPack
-		p.reset(ductIDMM, innerduct)
+		p.reset(ductIDMM, most)
 		var placed []float64
 		for _, od := range ods {
 			if p.place(od) {
 				placed = append(placed, od)
 			}
 		}
-		a := install.DuctBank{Ducts: len(placed), IDMM: ductIDMM, Innerduct: innerduct}.Pull(placed)
+		a := install.DuctBank{Ducts: len(placed), IDMM: ductIDMM, Innerduct: innerduct, CablesPerDuct: perDuct}.Pull(placed)
 		if !a.OK {
 			t.Fatalf("trial %d: Pull left %d of %v unplaced in %d ducts of %g mm, the optimizer placed them all",
 				trial, a.Unplaced, placed, len(placed), ductIDMM)
@@ -280,7 +299,7 @@ func TestPackIsPull(t *testing.T) {
 		}
 		// A cable the optimizer could not place fits not even an empty duct.
 		for _, od := range ods {
-			if !(install.Load{}).Takes(ductIDMM, od, innerduct) && slices.Contains(placed, od) {
+			if !(install.Load{}).Takes(ductIDMM, od, most) && slices.Contains(placed, od) {
 				t.Fatalf("trial %d: a %g mm cable no empty %g mm duct takes was placed", trial, od, ductIDMM)
 			}
 		}
@@ -387,6 +406,31 @@ func TestSeveralCables(t *testing.T) {
 			}
 			if f.Edge == 0 && f.AddedDucts != 2 {
 				t.Errorf("%s: %d ducts added on the short way, want 2", tc.name, f.AddedDucts)
+			}
+		}
+	}
+}
+
+// TestAddedCentsIsTheObjective: Edge.AddedCents, which the routing's count of pulls
+// (routing.ForCount) prices ducts and trench by, is what Solve's objective charges for k
+// added ducts (solver.ductsCents; doc.go), on existing and proposed edges, with and without
+// a trench's fewest ducts.
+func TestAddedCentsIsTheObjective(t *testing.T) {
+	t.Parallel()
+	edges := capNet(1, 4500)
+	edges[0].AddTrenchPerMCents, edges[0].AddTrenchCents, edges[0].AddTrenchDucts = 12345, 6789, 2
+	edges = append(edges,
+		Edge{ID: "bank-2", From: 0, To: 3, LengthM: 33.3, DuctIDMM: 100, Ducts: 2, AddDuctPerMCents: 777, AddTrenchPerMCents: 999},
+		Edge{ID: "new", From: 1, To: 3, LengthM: 71.7, Proposed: true, FixedCents: 100000, DuctIDMM: 100, Ducts: 2, AddDuctPerMCents: 4321})
+	p := &Problem{Nodes: 4, AllowNew: true, Edges: edges, Demands: capDemands(1, 10)}
+	sv := newSolver(p, Settings{})
+	for e := range p.Edges {
+		if !p.Edges[e].limited() {
+			continue
+		}
+		for k := range 6 {
+			if got, want := p.Edges[e].AddedCents(k), sv.ductsCents(e, k); got != want {
+				t.Errorf("edge %s, %d added: AddedCents %d, the objective's %d", p.Edges[e].ID, k, got, want)
 			}
 		}
 	}

@@ -226,7 +226,8 @@ func verifyErr(p *Problem, sol *Solution) error {
 					ods = append(ods, op.CableODMM)
 				}
 			}
-			a := install.DuctBank{Ducts: min(len(ods), install.MaxBankDucts), IDMM: p.Edges[f.Edge].DuctIDMM, Innerduct: p.Edges[f.Edge].Innerduct}.Pull(ods)
+			a := install.DuctBank{Ducts: min(len(ods), install.MaxBankDucts), IDMM: p.Edges[f.Edge].DuctIDMM, Innerduct: p.Edges[f.Edge].Innerduct,
+				CablesPerDuct: p.Edges[f.Edge].CablesPerDuct}.Pull(ods)
 			used := 0
 			for _, df := range a.Ducts {
 				if len(df.CablesODMM) > 0 {

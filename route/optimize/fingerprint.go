@@ -60,6 +60,7 @@ func Fingerprint(p *Problem, opt Settings) (sum [sha256.Size]byte, ok bool) {
 		f.int(e.AddTrenchCents)
 		f.int(int64(e.AddTrenchDucts))
 		f.bool(e.Innerduct)
+		f.int(int64(e.CablesPerDuct))
 	}
 	f.int(int64(len(p.Demands)))
 	for i := range p.Demands {

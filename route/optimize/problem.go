@@ -90,10 +90,18 @@ type Edge struct {
 
 	// Innerduct says that what the edge's ducts take (Option.CableODMM) are innerducts, each
 	// pulled in empty and holding one cable: a duct takes as many as fill and the jam band
-	// allow. False: loose cables, at most install.SeparateCablesPerDuct to a duct, one pull
-	// each (install.PullLimit, the count install.Load.Takes keeps to).
+	// allow. False: loose cables, at most CablesPerDuct to a duct, one pull each
+	// (install.PullLimit, the count install.Load.Takes keeps to).
 	Innerduct bool
+	// CablesPerDuct is the most loose cables one of the edge's ducts takes, one pull each (the
+	// plan's design.cables_per_duct, install.DefaultCablesPerDuct unless it says otherwise);
+	// 0: no count, fill and the jam band alone. Not read when Innerduct.
+	CablesPerDuct int
 }
+
+// PullLimit is the count of pulls of one of the edge's ducts (install.PullLimit of
+// Innerduct and CablesPerDuct; 0: no count), which its packing keeps to.
+func (e *Edge) PullLimit() int { return install.PullLimit(e.Innerduct, e.CablesPerDuct) }
 
 // limited reports whether the edge's capacity is checked (and its added ducts priced).
 func (e *Edge) limited() bool { return e.DuctIDMM > 0 }
@@ -127,6 +135,22 @@ func (e *Edge) LaidDucts(added int) int {
 		return 0
 	}
 	return max(added, e.AddTrenchDucts)
+}
+
+// AddedCents is what added ducts beyond Ducts cost along the edge, as Solve's objective
+// prices them (doc.go): on an existing edge the trench beside the full ducts, once,
+// round(LengthM × AddTrenchPerMCents) + AddTrenchCents, laid with LaidDucts(added) ducts at
+// round(LengthM × AddDuctPerMCents) each; on a proposed edge the added ducts at that price
+// each (its trench and Ducts are in FixedCents). 0 for added <= 0.
+func (e *Edge) AddedCents(added int) int64 {
+	if added <= 0 {
+		return 0
+	}
+	duct := centsFor(e.LengthM, e.AddDuctPerMCents)
+	if e.Proposed {
+		return int64(added) * duct
+	}
+	return int64(e.LaidDucts(added))*duct + centsFor(e.LengthM, e.AddTrenchPerMCents) + e.AddTrenchCents
 }
 
 // Option is one candidate medium for a demand.

@@ -384,7 +384,7 @@ func TestCampusPlansValid(t *testing.T) {
 					}
 				}
 				ducts := q.Edges[f.Edge].Ducts + f.AddedDucts
-				fits := NFPAFits(q.Edges[f.Edge].DuctIDMM, ods, ducts, q.Edges[f.Edge].Innerduct)
+				fits := NFPAFits(q.Edges[f.Edge].DuctIDMM, ods, ducts, q.Edges[f.Edge].PullLimit())
 				if hook {
 					fits = len(ods) <= 12*ducts
 				}

@@ -101,7 +101,7 @@ func newState(sv *solver) *state {
 		st.users[e], st.ods[e], st.cnt[e] = st.users[e][:0], st.ods[e][:0], st.cnt[e][:0]
 		st.alt[e].valid = false
 		if sv.limited[e] {
-			st.packs[e].reset(sv.p.Edges[e].DuctIDMM, sv.p.Edges[e].Innerduct)
+			st.packs[e].reset(sv.p.Edges[e].DuctIDMM, sv.p.Edges[e].PullLimit())
 			st.free[e] = math.Inf(-1)
 			if sv.p.Edges[e].Ducts > 0 {
 				st.free[e] = FillOneCable * st.packs[e].areaMM2

@@ -189,7 +189,7 @@ func overfullEdges(p *Problem, sol *Solution) []int {
 		if ed.MayAddDucts() {
 			ducts += f.AddedDucts
 		}
-		if !NFPAFits(ed.DuctIDMM, ods, ducts, ed.Innerduct) {
+		if !NFPAFits(ed.DuctIDMM, ods, ducts, ed.PullLimit()) {
 			over = append(over, f.Edge)
 		}
 	}
@@ -300,24 +300,28 @@ func TestWarmStartFullBank(t *testing.T) {
 // TestWarmStartSoundPulls: the warm start's room check (fullEdges) keeps to the count of pulls
 // as every packing does. Four thin cables (5 mm: four fill 5 % of a 50 mm duct, within NFPA 70
 // Chapter 9 Table 1's 40 %) start on the short way through one spare duct where none may be
-// added: three are kept (three loose cables a duct, install.SeparateCablesPerDuct: common
+// added: three are kept (three loose cables a duct, install.DefaultCablesPerDuct: common
 // practice, no published source), the fourth finds no room (StartNoRoom names the bank) and
-// goes the long way round. Innerducts (Edge.Innerduct), pulled in empty, are held to the
-// fill alone: all four keep the short way.
+// goes the long way round; two with a design of two a duct (Edge.CablesPerDuct, the plan's
+// design.cables_per_duct), all four with a design of fill alone (0). Innerducts
+// (Edge.Innerduct), pulled in empty, are held to the fill alone: all four keep the short way.
 func TestWarmStartSoundPulls(t *testing.T) {
 	t.Parallel()
 	short := [][]Hop{{{Edge: 0, Forward: true}, {Edge: 1, Forward: true}}}
 	for _, tc := range []struct {
 		name      string
 		innerduct bool
+		perDuct   int
 		noRoom    string // fmt of StartNoRoom
 		onShort   int
 	}{
-		{"loose cables", false, "[{3 [0]}]", 3},
-		{"innerducts", true, "[]", 4},
+		{"loose cables", false, 3, "[{3 [0]}]", 3},
+		{"loose cables, two a duct", false, 2, "[{2 [0]} {3 [0]}]", 2},
+		{"loose cables, fill alone", false, 0, "[]", 4},
+		{"innerducts", true, 3, "[]", 4},
 	} {
 		edges := capNet(1, 0)
-		edges[0].Innerduct = tc.innerduct
+		edges[0].Innerduct, edges[0].CablesPerDuct = tc.innerduct, tc.perDuct
 		p := &Problem{Nodes: 4, Edges: edges, Demands: capDemands(4, 5)}
 		var start []StartRoute
 		for _, d := range p.Demands {

@@ -489,6 +489,14 @@ type Summary struct {
 	// AddedDuctM is the duct laid new, in metres: in opened duct spans, in counted laterals and
 	// beside full ducts (estimate.Construction.AddedDuctM), as the bill's added-duct line.
 	AddedDuctM float64 `json:"added_duct_m"`
+	// CablesPerDuct is the design's count of pulls a duct (design.cables_per_duct; 0: the
+	// fill alone); CountLaidDuctM, CountLaidTrenchM and CountLaidCents the duct, the trench
+	// or bore beside existing banks and their price laid only for that count, which the fill
+	// alone would not need on these routes (estimate.Construction.ForCount; CountText).
+	CablesPerDuct    int     `json:"cables_per_duct"`
+	CountLaidDuctM   float64 `json:"count_laid_duct_m"`
+	CountLaidTrenchM float64 `json:"count_laid_trench_m"`
+	CountLaidCents   int64   `json:"count_laid_cents"`
 	// WorstMarginDB is the smallest loss margin of any feasible fibre leg; null when none.
 	WorstMarginDB *float64       `json:"worst_margin_db"`
 	MediaMix      map[string]int `json:"media_mix"` // feasible legs per medium
@@ -620,7 +628,7 @@ func Summarize(r *route.Result) Summary {
 	tot := TotalsOf(r)
 	s := Summary{Format: SummaryFormat, Scenario: r.Plan.Name, Hub: r.Hub, Buildings: len(r.Site.Campus.Buildings),
 		Links: len(r.Links), Legs: len(r.Legs), Warnings: append([]string{}, r.Warnings...), Notes: r.Notes,
-		MediaMix: map[string]int{}, Currency: r.Currency, NewTrenchM: round1(tot.NewM),
+		MediaMix: map[string]int{}, Currency: r.Currency, NewTrenchM: round1(tot.NewM), CablesPerDuct: r.Plan.Design.CablesPerDuct,
 		StartedFrom: r.StartedFrom}
 	if DemoPrices(r) {
 		s.DemoPrices = DemoPricesWarning
@@ -670,6 +678,8 @@ func Summarize(r *route.Result) Summary {
 		s.HandholesToBuild = s.TurnHandholes + s.JoinHandholes + s.TapHandholes + s.RunHandholes + r.Estimate.AddedPullPoints
 		s.Entrances = len(r.Estimate.Construction.Entrances)
 		s.AddedDuctM = round1(r.Estimate.Construction.AddedDuctM)
+		fc := r.Estimate.Construction.ForCount
+		s.CountLaidDuctM, s.CountLaidTrenchM, s.CountLaidCents = round1(fc.DuctM), round1(fc.TrenchM), fc.Cents
 	}
 	s.ObjectiveCents = r.ObjectiveCents
 	s.LowerBoundCents, s.GapPct = BoundGap(r.ObjectiveCents, r.LowerBoundCents)
@@ -826,12 +836,16 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 			s.CrossingLegs, s.TurnHandholes, also)
 	}
 	if s.LowerBoundCents != nil {
+		countToo := "" // design.cables_per_duct 0: fill alone
+		if s.CablesPerDuct > 0 {
+			countToo = " and for the count of pulls a duct"
+		}
 		closed := ""
 		switch {
 		case s.GapPct != nil && *s.GapPct <= 1e-7:
 			closed = " (proved optimal)"
 		case s.GapPct != nil && *s.GapPct > wideGapPct:
-			closed = " (no plan of these legs costs less than the bound; a gap this wide usually means a weak bound rather than poor routes)"
+			closed = " (no plan of these legs costs less than the bound; a gap this wide usually means a weak bound rather than poor routes: the bound leaves out duct capacity, so the ducts and trench added for fill" + countToo + " are not in it)"
 		}
 		cur := ""
 		if s.Currency != "" {
@@ -890,6 +904,9 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 	}
 	if line := fillLine(e.Fill); line != "" {
 		fmt.Fprintln(w, line)
+	}
+	if fc := c.ForCount; s.CablesPerDuct > 0 && (fc.DuctM > 0 || fc.TrenchM > 0 || fc.Cents > 0) {
+		fmt.Fprintln(w, CountText(fc, s.CablesPerDuct, length, func(c int64) string { return media.FormatCents(c) + " " + t(e.BOM.Currency) }))
 	}
 	b := e.BOM
 	var cats []string

@@ -12,6 +12,7 @@ import (
 	"spanwright/geo"
 	"spanwright/geo/input"
 	"spanwright/media"
+	"spanwright/media/install"
 )
 
 // Redundancy values of a link.
@@ -154,6 +155,14 @@ type Design struct {
 	// innerducts, a cable must fit its innerduct, and the bill adds the innerduct and placing it.
 	InnerductODMM float64 `yaml:"innerduct_od_mm"`
 	InnerductIDMM float64 `yaml:"innerduct_id_mm"`
+	// CablesPerDuct is the most loose cables one duct is given, each pulled on its own, before
+	// the next goes into another duct (install.PullLimit: a sound set of pulls, common
+	// practice, no published source; install.DefaultCablesPerDuct); 0 is no count, the NFPA 70
+	// Chapter 9 Table 1 fill and the jam band alone. It is the one value every packing of
+	// cables into ducts is given: the optimizer's (optimize.Edge.CablesPerDuct, set by
+	// routing), the bill's fill check and spread (install.DuctBank), the warm start's room
+	// check. Innerducts (InnerductODMM > 0) are not counted.
+	CablesPerDuct int `yaml:"cables_per_duct"`
 }
 
 // Innerduct reports whether the design places innerduct in ducts.
@@ -240,6 +249,9 @@ var Default = Plan{
 		// handhole about every 150 m; the bend budget between them is pull_bend_deg.
 		NewDucts:         2,
 		HandholeSpacingM: 150,
+		// Common practice, no published source: three loose cables a duct, each pulled on its
+		// own (install.DefaultCablesPerDuct).
+		CablesPerDuct: install.DefaultCablesPerDuct,
 		// Common practice, no published source: most campus trench runs under lawns, and the
 		// cheapest surface is the one an estimator must be told was assumed (a warning names
 		// every span billed on it).
@@ -488,6 +500,7 @@ var planNumbers = []planNumber{
 	{key: "design.handhole_spacing_m", r: input.Range{Min: 0, Max: 100000, Unit: "metres"}},
 	{key: "design.innerduct_od_mm", r: input.Range{Min: 0, Max: 1000, Unit: "millimetres"}},
 	{key: "design.innerduct_id_mm", r: input.Range{Min: 0, Max: 1000, Unit: "millimetres"}},
+	{key: "design.cables_per_duct", r: input.Range{Min: 0, Max: 1000, Whole: true, Unit: "loose cables a duct"}},
 }
 
 // SettingRange returns the range of a numeric plan setting by dotted key

@@ -38,6 +38,17 @@ design: {loss_margin_db: 2, allow_new_trench: false}
 	if p.Design.LossMarginDB != 2 || p.Design.AllowNewTrench || p.Design.MaxLateralM != 30 || p.Design.SnapM != 0.5 || p.Design.Objective != ObjectiveCost {
 		t.Errorf("design: got %+v", p.Design)
 	}
+	// design.cables_per_duct: 3 loose cables a duct unless the plan says otherwise (common
+	// practice, no published source); 0 is the fill alone.
+	if p.Design.CablesPerDuct != 3 {
+		t.Errorf("design.cables_per_duct: got %d, want the default 3", p.Design.CablesPerDuct)
+	}
+	if z, err := ParsePlan("plan.yaml", []byte("campus: [c]\ndesign: {cables_per_duct: 0}\n")); err != nil || z.Design.CablesPerDuct != 0 {
+		t.Errorf("design.cables_per_duct 0: got %v, %v; want 0, the fill alone", z, err)
+	}
+	if _, err := ParsePlan("plan.yaml", []byte("campus: [c]\ndesign: {cables_per_duct: 2.5}\n")); err == nil || err.Error() != `plan.yaml:2:27: design.cables_per_duct: want an integer, got "2.5"` {
+		t.Errorf("design.cables_per_duct 2.5: got %v, want the integer it must be", err)
+	}
 	if len(p.Links) != 3 || p.Links[1].From != "LIB" || p.Links[1].Growth == nil || *p.Links[1].Growth != 0 || !p.Links[2].Skip {
 		t.Errorf("links: got %+v", p.Links)
 	}
@@ -128,6 +139,7 @@ func TestParsePlanNumbers(t *testing.T) {
 		{"lateral infinite", "campus: [c]\ndesign: {max_lateral_m: .inf}\n", "plan.yaml:2:25: design.max_lateral_m: want metres above 0 and at most 1000, got +Inf"},
 		{"margin negative infinite", "campus: [c]\ndesign: {loss_margin_db: -.inf}\n", "plan.yaml:2:26: design.loss_margin_db: want dB from 0 to 50, got -Inf"},
 		{"innerduct NaN", "campus: [c]\ndesign: {innerduct_od_mm: .nan}\n", "plan.yaml:2:27: design.innerduct_od_mm: want millimetres from 0 to 1000, got NaN"},
+		{"cables a duct negative", "campus: [c]\ndesign: {cables_per_duct: -1}\n", "plan.yaml:2:27: design.cables_per_duct: want a whole number of loose cables a duct from 0 to 1000, got -1"},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {

@@ -207,6 +207,9 @@ type planView struct {
 	// NewWorkParts is NewTrench's bored and building laterals' parts (output.NewWorkParts),
 	// "" for none.
 	NewWorkParts string
+	// CountOfPulls is what the count of pulls a duct lays beyond the fill alone
+	// (output.CountText of estimate.Construction.ForCount); "" without an estimate.
+	CountOfPulls string
 	Opened       string // "N proposed spans"
 	Worst        string
 	Total        string
@@ -441,6 +444,8 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 	v.NewTrench = opt.lengthU(tot.NewM)
 	if r.Estimate != nil {
 		v.NewWorkParts = output.NewWorkParts(r.Estimate.Construction, opt.lengthU)
+		v.CountOfPulls = strings.TrimPrefix(output.CountText(r.Estimate.Construction.ForCount, s.CablesPerDuct, opt.lengthU,
+			func(c int64) string { return money(c) + " " + r.Currency }), "count of pulls: ")
 	}
 	v.Opened = output.Counted(len(r.Opened), "proposed span", "proposed spans")
 	if s.WorstMarginDB != nil {
@@ -541,11 +546,11 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 		for _, f := range e.Fill {
 			if f.Unplaced {
 				noDuct += len(f.CablesODMM)
-			} else if install.Crowded(len(f.CablesODMM), f.Innerduct) {
+			} else if f.Crowded() {
 				v.Crowded++
+				v.Separate = f.Pulls
 			}
 		}
-		v.Separate = install.SeparateCablesPerDuct
 		switch {
 		case noDuct == 1:
 			v.NoDuct = "1 cable fits no duct of its span"

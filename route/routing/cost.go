@@ -347,8 +347,12 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 			}
 		}
 		// Innerduct: the ducts take innerducts (each pulled in empty, one cable in it), not
-		// loose cables held to three a duct (install.PullLimit).
+		// loose cables held to the design's count a duct (design.cables_per_duct,
+		// install.PullLimit).
 		e.Innerduct = e.DuctIDMM > 0 && d.Innerduct()
+		if e.DuctIDMM > 0 {
+			e.CablesPerDuct = d.CablesPerDuct
+		}
 		p.Edges[i] = e
 	}
 	for k, x := range lay.extra {

@@ -611,6 +611,9 @@ type SegmentFill struct {
 	// optimizer packed them into its ducts (optimize.EdgeFill.Demands): the estimate's duct
 	// fill packs them in this order too. Nil when the span is not limited.
 	Links []string
+	// ForCount is what the count of pulls lays along the span beyond the fill alone
+	// (forCount, count.go).
+	ForCount ForCount
 }
 
 func fillReport(s *site.Site, prob *optimize.Problem, sol *optimize.Solution) []SegmentFill {
@@ -625,7 +628,8 @@ func fillReport(s *site.Site, prob *optimize.Problem, sol *optimize.Solution) []
 			links = append(links, prob.Demands[d].ID)
 		}
 		out = append(out, SegmentFill{Span: sp.ID, PathwayID: sp.PathwayID, Cables: f.Cables, Limited: f.Limited,
-			Ducts: f.Ducts, AddedDucts: f.AddedDucts, UsedAreaMM2: f.UsedAreaMM2, AllowedAreaMM2: f.AllowedAreaMM2, Links: links})
+			Ducts: f.Ducts, AddedDucts: f.AddedDucts, UsedAreaMM2: f.UsedAreaMM2, AllowedAreaMM2: f.AllowedAreaMM2, Links: links,
+			ForCount: forCount(prob, sol, &f)})
 	}
 	sort.Slice(out, func(i, j int) bool { return out[i].Span < out[j].Span })
 	return out

@@ -6,6 +6,7 @@ import (
 	"crypto/sha256"
 	"encoding/csv"
 	"encoding/hex"
+	"encoding/json"
 	"errors"
 	"io/fs"
 	"os"
@@ -13,6 +14,7 @@ import (
 	"path/filepath"
 	"slices"
 	"sort"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -628,5 +630,70 @@ func TestBuiltInsInPlan(t *testing.T) {
 	}
 	if strings.Contains(own, "built-in prices") {
 		t.Errorf("the scenario with its own price book names the built-in one:\n%s", own)
+	}
+}
+
+// TestCablesPerDuctAxis: a sweep may vary design.cables_per_duct like any design setting
+// (override.go), and its rows differ where it does: on the demo campus three loose cables a
+// duct (the default, common practice, no published source) lay ducts and trench beside banks
+// that the NFPA 70 Chapter 9 Table 1 fill alone (0) does not, so the plan of 3 costs more.
+// Each scenario's summary.json says what the count laid (count_laid_cents: 0 without it).
+func TestCablesPerDuctAxis(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	rep := run(t, parseInline(t, "vary: {design.cables_per_duct: [0, 3]}"), Options{Out: dir})
+	if err := rep.Err(); err != nil {
+		t.Fatalf("sweep over cables_per_duct: %v", err)
+	}
+	data, err := os.ReadFile(filepath.Join(dir, CompareCSV))
+	if err != nil {
+		t.Fatal(err)
+	}
+	recs, err := csv.NewReader(bytes.NewReader(data)).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	key, total, status := slices.Index(recs[0], "design.cables_per_duct"), slices.Index(recs[0], "total_cost"), slices.Index(recs[0], "status")
+	if len(recs) != 3 || key < 0 || total < 0 || status < 0 {
+		t.Fatalf("compare.csv: %q", recs)
+	}
+	cost := map[string]float64{}
+	for _, r := range recs[1:] {
+		if r[status] != StatusOK {
+			t.Errorf("cables_per_duct %s: status %q", r[key], r[status])
+		}
+		v, err := strconv.ParseFloat(r[total], 64)
+		if err != nil {
+			t.Fatalf("cables_per_duct %s: total %q: %v", r[key], r[total], err)
+		}
+		cost[r[key]] = v
+	}
+	if !(cost["3"] > cost["0"]) {
+		t.Errorf("total cost with 3 loose cables a duct %.2f, with the fill alone %.2f: want the count dearer", cost["3"], cost["0"])
+	}
+	laid := map[int]int64{}
+	err = filepath.WalkDir(dir, func(p string, d fs.DirEntry, err error) error {
+		if err != nil || d.Name() != "summary.json" {
+			return err
+		}
+		b, err := os.ReadFile(p)
+		if err != nil {
+			return err
+		}
+		var s struct {
+			PerDuct int   `json:"cables_per_duct"`
+			Cents   int64 `json:"count_laid_cents"`
+		}
+		if err := json.Unmarshal(b, &s); err != nil {
+			return err
+		}
+		laid[s.PerDuct] = s.Cents
+		return nil
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(laid) != 2 || laid[0] != 0 || laid[3] <= 0 {
+		t.Errorf("summary.json count_laid_cents by cables_per_duct %v, want 0 for 0 and more for 3", laid)
 	}
 }

@@ -1,0 +1,33 @@
+package output
+
+import (
+	"fmt"
+	"strings"
+
+	"spanwright/route/estimate"
+)
+
+// CountText is the one sentence that says what the count of pulls a duct
+// (design.cables_per_duct, perDuct; 0: none) costs the plan: the trench or bore beside existing
+// duct banks and the duct laid only for it, and their price, from
+// estimate.Construction.ForCount (computed once there). The terminal prints it when the count
+// lays anything; the report always. length and money format metres and cents in the run's
+// units and currency.
+func CountText(c estimate.CountWork, perDuct int, length func(m float64) string, money func(cents int64) string) string {
+	if perDuct <= 0 {
+		return "count of pulls: none (design.cables_per_duct 0): ducts are packed by the NFPA 70 Chapter 9 Table 1 fill and the jam band alone"
+	}
+	rule := fmt.Sprintf("count of pulls: at most %d loose cables a duct, one pull each (design.cables_per_duct; common practice, no published source)", perDuct)
+	if c.DuctM <= 0 && c.TrenchM <= 0 && c.Cents <= 0 {
+		return rule + ": it lays nothing that the fill alone would not on these routes"
+	}
+	var laid []string
+	if c.TrenchM > 0 {
+		laid = append(laid, length(c.TrenchM)+" of trench or bore beside existing duct banks")
+	}
+	if c.DuctM > 0 {
+		laid = append(laid, length(c.DuctM)+" of duct")
+	}
+	return fmt.Sprintf("%s: %s laid only for it, %s as the optimizer prices them, which the fill alone (NFPA 70 Chapter 9 Table 1 and the jam band) would not need on these routes; without the count the optimizer might route otherwise (design.cables_per_duct 0 plans so)",
+		rule, strings.Join(laid, " and "), money(c.Cents))
+}
