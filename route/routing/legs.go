@@ -380,9 +380,10 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 		}
 		fm := withCable(facts, mine)
 		if again := cm.eng.ChooseLaid(fm, c.Medium, media.Laying{Construction: c.Construction, Inside: c.Inside, At: c.InsideAt}); again.Feasible {
+			// The reason is the leg's own: its channel, cost and loss on the cable it buys; how
+			// it was chosen is a note (review 15 F2: the first choice's channel and cost led it).
 			again.Rejected, again.Code = c.Rejected, c.Code
-			again.Reason = fmt.Sprintf("%s; measured on its own cable (%d mid-span joins, %s m of channel; it was chosen on %d joins): %s, %s",
-				c.Reason, mine.Joins, strconv.FormatFloat(mine.ChannelM, 'f', 2, 64), t.Joins, again.Application, lossText(again.Losses))
+			again.Reason = fmt.Sprintf("%s; chosen as %s on %d mid-span joins, measured on its own cable's %d", again.Reason, media.Verdict(c.Code), t.Joins, mine.Joins)
 			ch, leg.Cable, facts, settled = again, mine, fm, true
 			break
 		}
@@ -443,22 +444,6 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 	if ch.Medium != optionMedium(option) {
 		leg.Choice += fmt.Sprintf(" (the optimizer routed it for %s)", optionMedium(option))
 	}
-}
-
-// lossText is the worst operating loss of a budget as a reason gives it: "loss 3.58 dB
-// against 4.50 dB at 1310 nm (margin 0.92 dB)"; "no loss budget" without one (copper).
-func lossText(ls []media.Loss) string {
-	w, found := media.Loss{}, false
-	for _, l := range ls {
-		if l.Operating && (!found || l.MarginDB < w.MarginDB) {
-			w, found = l, true
-		}
-	}
-	if !found {
-		return "no loss budget"
-	}
-	return fmt.Sprintf("loss %s dB against %s dB at %d nm (margin %s dB)", strconv.FormatFloat(w.LossDB, 'f', 2, 64),
-		strconv.FormatFloat(w.LimitDB, 'f', 2, 64), w.WavelengthNM, strconv.FormatFloat(w.MarginDB, 'f', 2, 64))
 }
 
 // sameLaying reports whether two choices lay the same cable: medium, construction and the
