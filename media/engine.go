@@ -807,12 +807,13 @@ func (c Choice) clone() Choice {
 }
 
 // ChooseLaid is Choose among the candidates of medium laid as lay alone: its application,
-// losses and cost on l's facts, the reason saying it was the only laying judged and no other
-// medium rejected. A caller that has chosen the laying on other facts (routing's fillLeg:
-// the reel joins of a transition's outside cable, which fewer than the count the choice was
-// made on) measures it so. Not remembered.
+// losses and cost on l's facts, no other medium rejected, and a reason that compares it with
+// no other medium (none was judged): "os2 with 10GBASE-LR on …, at 3,100.00 USD … for a
+// 926.53 m channel, loss …". A caller that has chosen the laying on other facts (routing's
+// fillLeg: the reel joins of the cable the laying buys, fewer than the count the choice was
+// made on) measures it so, and says how it was chosen. Not remembered.
 func (e *Engine) ChooseLaid(l Link, medium string, lay Laying) Choice {
-	ch := e.chooseAmong(l, func(m *Medium, k *Construction, v variant) bool {
+	ch := e.chooseAmong(l, true, func(m *Medium, k *Construction, v variant) bool {
 		return m.ID == medium && layingOf(k, v) == lay
 	})
 	ch.Rejected = nil
@@ -824,13 +825,14 @@ func (e *Engine) ChooseLaid(l Link, medium string, lay Laying) Choice {
 // buy (routing's fillLeg: a transition's outside cable takes fewer than the whole) judges them
 // on their own cable. Not remembered.
 func (e *Engine) ChooseAt(l Link, at Ends) Choice {
-	return e.chooseAmong(l, func(_ *Medium, k *Construction, v variant) bool { return layingOf(k, v).At == at })
+	return e.chooseAmong(l, false, func(_ *Medium, k *Construction, v variant) bool { return layingOf(k, v).At == at })
 }
 
-func (e *Engine) choose(l Link) Choice { return e.chooseAmong(l, nil) }
+func (e *Engine) choose(l Link) Choice { return e.chooseAmong(l, false, nil) }
 
-// chooseAmong is choose among the candidates keep keeps (all when nil).
-func (e *Engine) chooseAmong(l Link, keep func(m *Medium, k *Construction, v variant) bool) Choice {
+// chooseAmong is choose among the candidates keep keeps (all when nil); laid: keep keeps one
+// laying of one medium, which the reason then compares with no other (ChooseLaid).
+func (e *Engine) chooseAmong(l Link, laid bool, keep func(m *Medium, k *Construction, v variant) bool) Choice {
 	if msg := checkLink(l); msg != "" {
 		return Choice{Reason: fmt.Sprintf("%s: bad facts: %s", linkName(l), msg), Code: CodeBadFacts}
 	}
@@ -921,7 +923,7 @@ func (e *Engine) chooseAmong(l Link, keep func(m *Medium, k *Construction, v var
 		ch.Code = CodeNoMedium
 		return ch
 	}
-	ch.Reason, ch.Code = e.reason(l, win, ok, all)
+	ch.Reason, ch.Code = e.reason(l, win, ok, all, laid)
 	return ch
 }
 
@@ -1114,18 +1116,21 @@ func (e *Engine) preferRule(i int) *Rule {
 // reason is the one-sentence explanation of a choice and its code: CodeOnly, CodeCheapest or
 // CodePreferred; then, for each application at the rate on the winner's medium that would
 // cost less but no laying of which is feasible, why it was refused (refusedApps).
-func (e *Engine) reason(l Link, win *candidate, ok, all []*candidate) (string, string) {
+func (e *Engine) reason(l Link, win *candidate, ok, all []*candidate, laid bool) (string, string) {
 	var b strings.Builder
 	code := CodeOnly
-	fmt.Fprintf(&b, "%s with %s on %s ", win.m.ID, win.a.Name, win.label())
+	fmt.Fprintf(&b, "%s with %s on %s", win.m.ID, win.a.Name, win.label())
 	media := map[string]bool{}
 	for _, c := range ok {
 		media[c.m.ID] = true
 	}
-	if len(media) == 1 {
-		fmt.Fprintf(&b, "is the only feasible medium, at %s %s %s", FormatCents(win.costCents), e.prices.Currency, costCovers)
-	} else {
-		fmt.Fprintf(&b, "is the cheapest of %d feasible media at %s %s %s", len(media), FormatCents(win.costCents), e.prices.Currency, costCovers)
+	switch {
+	case laid: // one laying judged: no comparison (ChooseLaid)
+		fmt.Fprintf(&b, ", at %s %s %s", FormatCents(win.costCents), e.prices.Currency, costCovers)
+	case len(media) == 1:
+		fmt.Fprintf(&b, " is the only feasible medium, at %s %s %s", FormatCents(win.costCents), e.prices.Currency, costCovers)
+	default:
+		fmt.Fprintf(&b, " is the cheapest of %d feasible media at %s %s %s", len(media), FormatCents(win.costCents), e.prices.Currency, costCovers)
 		code = CodeCheapest
 		for i, p := range win.prefer {
 			if p {

@@ -3,6 +3,7 @@ package media
 import (
 	"bytes"
 	"errors"
+	"fmt"
 	"math"
 	"path/filepath"
 	"reflect"
@@ -1151,6 +1152,11 @@ func TestChooseLaid(t *testing.T) {
 	if !spliced.Feasible || spliced.Construction != "osp-loose-tube" || spliced.Inside != "ofnr-riser" || spliced.InsideAt != EndsBoth ||
 		spliced.Losses[0].Splices != ch.Losses[0].Splices+2 {
 		t.Errorf("spliced at both entrances: %+v", spliced)
+	}
+	// Its reason compares it with no medium (none other was judged) and says its own cost
+	// and channel (review 15 F2: "is the only feasible medium" of a laying judged alone).
+	if want := fmt.Sprintf("os2 with %s on indoor-outdoor, at %s USD of cable, terminations and transceivers for a 540 m channel, loss ", same.Application, FormatCents(same.CostCents)); !strings.HasPrefix(same.Reason, want) || strings.Contains(same.Reason, "feasible medium") {
+		t.Errorf("the chosen laying alone: reason %q, want it to begin %q", same.Reason, want)
 	}
 	buried := l
 	buried.PathwayTypes = []string{"buried"}

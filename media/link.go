@@ -220,6 +220,21 @@ const (
 	CodeBadFacts      = "BAD-FACTS" // the link's facts are out of range (a bug upstream)
 )
 
+// Verdict is how a choice of code stood among the media, as a note on a reason says it: "the
+// only feasible medium" (CodeOnly), "the cheapest feasible medium" (CodeCheapest), "the
+// cheapest of the media a rule prefers" (CodePreferred); "" for any other code.
+func Verdict(code string) string {
+	switch code {
+	case CodeOnly:
+		return "the only feasible medium"
+	case CodeCheapest:
+		return "the cheapest feasible medium"
+	case CodePreferred:
+		return "the cheapest of the media a rule prefers"
+	}
+	return ""
+}
+
 // AttenuatorQuantity is the bill of materials line for the choice's attenuators, and whether
 // it needs any.
 func (c Choice) AttenuatorQuantity() (Quantity, bool) {

@@ -61,14 +61,7 @@ func TestTunnelThroughBuildingCountsInside(t *testing.T) {
 // stays outside-plant; summed over the two crossings (24 m) it was refused (review 15 F7).
 func TestTunnelThroughBuildingTwice(t *testing.T) {
 	t.Parallel()
-	u := [][2]float64{{72, 15}, {84, 15}, {84, 35}, {96, 35}, {96, 15}, {108, 15}, {108, 50}, {72, 50}, {72, 15}}
-	var ring []string
-	for _, p := range u {
-		ring = append(ring, fmt.Sprintf("[%.7f,%.7f]", testsite.X(p[0]), testsite.Y(p[1])))
-	}
-	m := `{"type":"Feature","properties":{"kind":"building","id":"M","riser_m":2,"transit":true},"geometry":{"type":"Polygon","coordinates":[[` + strings.Join(ring, ",") + `]]}}`
-	f := []string{testsite.Long("A", "mc", 0, 20), m, testsite.Long("B", "", 200, 220), testsite.Pathway("T", "tunnel", 20, 25, 200, 25)}
-	r, err := testplan.PullSolveJSON(t, `{"type":"FeatureCollection","features":[`+strings.Join(f, ",")+`]}`, nil)
+	r, err := testplan.PullSolveJSON(t, uCampus(testsite.Pathway("T", "tunnel", 20, 25, 200, 25)), nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -76,4 +69,85 @@ func TestTunnelThroughBuildingTwice(t *testing.T) {
 	if got := l.ConstructionText(); got != "osp-loose-tube" || !slices.Contains(l.Crosses, "M") {
 		t.Errorf("two 12 m crossings of M: %s crossing %q; want osp-loose-tube (each within 15 m of its entrance), M crossed", got, l.Crosses)
 	}
+}
+
+// uCampus is TestTunnelThroughBuildingTwice's campus: hub A, served building B, and between
+// them the U-shaped building M (arms at x = 72-84 and 96-108, the yard between them open from
+// y = 15 to 35; transit: true), with the pathways given.
+func uCampus(pathways ...string) string {
+	u := [][2]float64{{72, 15}, {84, 15}, {84, 35}, {96, 35}, {96, 15}, {108, 15}, {108, 50}, {72, 50}, {72, 15}}
+	var ring []string
+	for _, p := range u {
+		ring = append(ring, fmt.Sprintf("[%.7f,%.7f]", testsite.X(p[0]), testsite.Y(p[1])))
+	}
+	m := `{"type":"Feature","properties":{"kind":"building","id":"M","riser_m":2,"transit":true},"geometry":{"type":"Polygon","coordinates":[[` + strings.Join(ring, ",") + `]]}}`
+	f := append([]string{testsite.Long("A", "mc", 0, 20), m, testsite.Long("B", "", 200, 220)}, pathways...)
+	return `{"type":"FeatureCollection","features":[` + strings.Join(f, ",") + `]}`
+}
+
+// TestThroughBuildingSplitPathway: a tunnel or tray drawn as pieces that meet at a vertex
+// inside a building the route passes through is the same pathway as drawn whole, and the
+// answer must not change: each crossing counts from its own point of entrance (NFPA 70
+// 770.48(A), from memory; the rule through-15m) however many spans it is made of (review 15: a
+// piece ending inside runs wall to wall on neither piece, and the crossing was not counted;
+// the middle piece of the U building's tunnel, both ends inside M, was counted whole, 24 m,
+// arms and yard). On tunnelUnderCampus's M, 10 m and 40 m wide, split at its middle, and on
+// the U-shaped M split in one arm and in each: the same medium, construction, buildings
+// crossed and reason as the whole tunnel's; osp-loose-tube where each crossing is within
+// 15 m (10 m, 12 m an arm), indoor-outdoor across 40 m. Trays alike (the same campus with the
+// pathway a tray): the same answer split as whole.
+func TestThroughBuildingSplitPathway(t *testing.T) {
+	t.Parallel()
+	type answer struct{ medium, construction, crosses, reason string }
+	solve := func(campus string) answer {
+		r, err := testplan.PullSolveJSON(t, campus, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		_, l := testplan.LegOf(t, r, "A-B")
+		return answer{l.Medium, l.ConstructionText(), strings.Join(l.Crosses, " "), l.Choice}
+	}
+	straight := func(widthM float64, typ string, cutsX ...float64) string {
+		building := testsite.Long
+		m := strings.Replace(building("M", "", 90-widthM/2, 90+widthM/2), `"riser_m":2`, `"riser_m":2,"transit":true`, 1)
+		f := []string{building("A", "mc", 0, 20), m, building("B", "", 200, 220)}
+		return `{"type":"FeatureCollection","features":[` + strings.Join(append(f, pieces(typ, cutsX...)...), ",") + `]}`
+	}
+	for _, typ := range []string{"tunnel", "tray"} {
+		for _, tc := range []struct {
+			name   string
+			whole  string
+			splits []string
+			want   string // the construction with a tunnel
+		}{
+			{"M 10 m wide", straight(10, typ), []string{straight(10, typ, 90)}, "osp-loose-tube"},
+			{"M 40 m wide", straight(40, typ), []string{straight(40, typ, 90), straight(40, typ, 80, 100)}, "indoor-outdoor"},
+			{"U-shaped M", uCampus(pieces(typ)...), []string{uCampus(pieces(typ, 78)...), uCampus(pieces(typ, 78, 102)...)}, "osp-loose-tube"},
+		} {
+			whole := solve(tc.whole)
+			if typ == "tunnel" && (whole.construction != tc.want || whole.crosses != "M") {
+				t.Errorf("%s, whole tunnel: %s crossing %q; want %s, M crossed", tc.name, whole.construction, whole.crosses, tc.want)
+			}
+			for k, c := range tc.splits {
+				if got := solve(c); got != whole {
+					t.Errorf("%s, %s split (%d): %+v\nwhole: %+v", tc.name, typ, k+1, got, whole)
+				}
+			}
+		}
+	}
+}
+
+// pieces is a pathway of type typ along y = 25 from x = 20 to 200, drawn as one line, or cut
+// into pieces T1, T2, … at each x of cutsX.
+func pieces(typ string, cutsX ...float64) []string {
+	if len(cutsX) == 0 {
+		return []string{testsite.Pathway("T", typ, 20, 25, 200, 25)}
+	}
+	var out []string
+	from := 20.0
+	for i, x := range append(cutsX, 200) {
+		out = append(out, testsite.Pathway(fmt.Sprintf("T%d", i+1), typ, from, 25, x, 25))
+		from = x
+	}
+	return out
 }

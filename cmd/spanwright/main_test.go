@@ -141,6 +141,10 @@ func TestBadInput(t *testing.T) {
 		{"bad units", []string{"check", "--units", "cubits", "testdata/plans/ok.yaml"}, exitInvalid, []string{`--units: want metric or imperial, got "cubits"`}},
 		{"missing plan", []string{"plan", "testdata/plans/none.yaml", "--out", "x"}, exitInvalid, []string{"none.yaml"}},
 		{"not json", []string{"check", "../../testdata/bad/not_json.geojson"}, exitInvalid, []string{"not_json.geojson"}},
+		// A reel of 100 m with 47.6 m of splicing slack an end carries 4 cm of route: refused,
+		// not planned for minutes (review 15 F5; plan.MinReelRouteM).
+		{"splice slack leaving a reel no route", []string{"plan", "testdata/plans/reel_slack.yaml", "--out", "x"}, exitInvalid,
+			[]string{`reel_slack.yaml:5:39: design.splice_slack_m: want at most 47.11 metres: a reel carries reel_m / (1 + waste_pct/100) = 95.24 m of channel`}},
 		{"unknown hub", []string{"plan", "testdata/plans/unknown_hub.yaml", "--out", "x"}, exitInvalid, []string{`unknown_hub.yaml:3:6: hub: want the id of a building, got "NOPE", which no building has`}},
 		{"unknown link buildings, all reported", []string{"plan", "testdata/plans/unknown_link.yaml", "--out", "x"}, exitInvalid,
 			[]string{`unknown_link.yaml:5:10: links[1].to: unknown building "GHOST"`, `unknown_link.yaml:6:12: links[2].from: unknown building "PHANTOM"`}},

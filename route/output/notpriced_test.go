@@ -3,6 +3,7 @@ package output
 import (
 	"bytes"
 	"context"
+	"encoding/json"
 	"fmt"
 	"maps"
 	"math"
@@ -657,6 +658,17 @@ func TestCautionsNameEveryPit(t *testing.T) {
 			t.Fatal(err)
 		}
 		s := Summarize(r)
+		// summary.json counts them too, the terminal's figure (review 15 F6: a reader of the
+		// JSON could not reconcile its handholes with the cautions').
+		if s.SplicePointsToBuild != len(r.Estimate.SplicePoints) {
+			t.Errorf("reels of %g m: splice_points_to_build %d, the bill's splice points %d", reelM, s.SplicePointsToBuild, len(r.Estimate.SplicePoints))
+		}
+		if js, err := json.Marshal(s); err != nil || !strings.Contains(string(js), fmt.Sprintf(`"splice_points_to_build":%d,`, len(r.Estimate.SplicePoints))) {
+			t.Errorf("reels of %g m: summary.json lacks splice_points_to_build %d: %s %v", reelM, len(r.Estimate.SplicePoints), js, err)
+		}
+		if reelM == 300 && s.SplicePointsToBuild == 0 {
+			t.Errorf("reels of 300 m: no splice point to build: the count is not tested")
+		}
 		want := fmt.Sprintf("(%s to build in all, with the %d where routes turn)", Counted(s.HandholesToBuild, "handhole", "handholes"), s.TurnHandholes)
 		if n := len(r.Estimate.SplicePoints); n > 0 {
 			want = fmt.Sprintf("(%s to build in all, with the %d where routes turn; and %s to build)", Counted(s.HandholesToBuild, "handhole", "handholes"), s.TurnHandholes,

@@ -485,7 +485,13 @@ type Summary struct {
 	JoinHandholes    int `json:"join_handholes"`
 	TapHandholes     int `json:"tap_handholes"`
 	HandholesToBuild int `json:"handholes_to_build"`
-	Entrances        int `json:"entrances_used"`
+	// SplicePointsToBuild counts the splice points to build (estimate.Estimate.SplicePoints:
+	// mid-span joins no structure within a reel's reach takes, one a place), billed on a line of
+	// their own, not among HandholesToBuild; most are dug as handholes, one on an aerial span's
+	// strand is a closure there. The terminal prints it beside the handholes, and the cautions'
+	// handholes to set are HandholesToBuild and the dug ones (review 15 F6).
+	SplicePointsToBuild int `json:"splice_points_to_build"`
+	Entrances           int `json:"entrances_used"`
 	// AddedDuctM is the duct laid new, in metres: in opened duct spans, in counted laterals and
 	// beside full ducts (estimate.Construction.AddedDuctM), as the bill's added-duct line.
 	AddedDuctM float64 `json:"added_duct_m"`
@@ -676,6 +682,7 @@ func Summarize(r *route.Result) Summary {
 		s.JoinHandholes = len(r.Estimate.Construction.NewJunctions)
 		s.TapHandholes = len(r.Estimate.Construction.TapJunctions)
 		s.HandholesToBuild = s.TurnHandholes + s.JoinHandholes + s.TapHandholes + s.RunHandholes + r.Estimate.AddedPullPoints
+		s.SplicePointsToBuild = len(r.Estimate.SplicePoints)
 		s.Entrances = len(r.Estimate.Construction.Entrances)
 		s.AddedDuctM = round1(r.Estimate.Construction.AddedDuctM)
 		fc := r.Estimate.Construction.ForCount
@@ -877,12 +884,12 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 	if s.TurnHandholes > 0 {
 		turns = fmt.Sprintf(", with the %d where routes turn", s.TurnHandholes)
 	}
-	// The splice points to build (estimate.Estimate.SplicePoints) are billed on a line of
+	// The splice points to build (Summary.SplicePointsToBuild) are billed on a line of
 	// their own, not among the handholes, though most are dug as handholes (not a closure on an
 	// aerial strand): said beside them, so that a reader can add the terminal's handholes to
 	// the cautions' handholes to set (tester 11's finding 1).
 	splices := ""
-	if n := len(e.SplicePoints); n > 0 {
+	if n := s.SplicePointsToBuild; n > 0 {
 		splices = "; and " + Counted(n, "splice point", "splice points") + " to build"
 	}
 	fmt.Fprintf(w, "construction: new trench %s%s, added duct %s, %s where new pathway joins, %d along new construction%s, %d for added pull points (%s to build in all%s%s); %s used\n",

@@ -3,6 +3,7 @@ package plan
 import (
 	"errors"
 	"fmt"
+	"math"
 	"path/filepath"
 	"slices"
 	"strings"
@@ -439,11 +440,11 @@ func (p *Plan) validate(errs *input.Problems) {
 	if !reported("design.handhole_spacing_m") && g.HandholeSpacingM > 0 && g.HandholeSpacingM < MinHandholeSpacingM {
 		bad("design.handhole_spacing_m", input.ErrBadValue, "want 0 (no limit) or at least %g metres, got %g", float64(MinHandholeSpacingM), g.HandholeSpacingM)
 	}
-	// A reel between two joins carries the splicing slack at both its ends, and some cable
-	// besides, or no number of reels would reach.
-	if !reported("design.splice_slack_m", "design.reel_m", "design.waste_pct") && 2*g.SpliceSlackM >= g.ReelM/(1+g.WastePct/100) {
-		bad("design.splice_slack_m", input.ErrBadValue, "want less than half of the channel a reel carries (reel_m / (1 + waste_pct/100) / 2 = %.2f metres), got %g",
-			g.ReelM/(1+g.WastePct/100)/2, g.SpliceSlackM)
+	// A reel between two joins carries the splicing slack at both its ends, and at least
+	// MinReelRouteM of route besides.
+	if carriesM := g.ReelM / (1 + g.WastePct/100); !reported("design.splice_slack_m", "design.reel_m", "design.waste_pct") && carriesM-2*g.SpliceSlackM < MinReelRouteM {
+		bad("design.splice_slack_m", input.ErrBadValue, "want at most %.2f metres: a reel carries reel_m / (1 + waste_pct/100) = %.2f m of channel, the splicing slack at both its joined ends (2 × splice_slack_m) and at least %g m of route besides; got %g",
+			math.Floor((carriesM-MinReelRouteM)/2*100)/100, carriesM, float64(MinReelRouteM), g.SpliceSlackM)
 	}
 	switch {
 	case reported("design.innerduct_od_mm", "design.innerduct_id_mm"):
@@ -453,6 +454,16 @@ func (p *Plan) validate(errs *input.Problems) {
 		bad("design.innerduct_id_mm", input.ErrBadValue, "want millimetres above 0 and below innerduct_od_mm (%g), got %g", g.InnerductODMM, g.InnerductIDMM)
 	}
 }
+
+// MinReelRouteM is the least route, in metres, a reel between two joins must carry besides the
+// splicing slack at its two ends (2 × splice_slack_m, design.splice_slack_m's limit): cable is
+// bought and cut from reels in whole metres (routing's reels and reel cuts round each up), so a
+// reel carrying less than a metre of route adds a join, its splices and its slack for less
+// cable than the takeoff measures. Without it the splicing slack could come within a hair of
+// half a reel, a join for every few centimetres of route: review 15 F5 (reel_m 100, 5 % waste,
+// splice_slack_m 47.6: 4 cm a reel, 25,000 joins a kilometre; at 47.6190476, 50 nm a reel, the
+// takeoff placed billions of joins and never finished). Common practice, no published source.
+const MinReelRouteM = 1
 
 // MaxStrands is the most strands a link may ask for: the largest cables hold a few thousand
 // fibres.

@@ -82,7 +82,9 @@ func TestParsePlanErrors(t *testing.T) {
 		{"innerduct inside not below outside", "campus: [c]\ndesign: {innerduct_od_mm: 32, innerduct_id_mm: 32}\n", []string{"plan.yaml:2:48: design.innerduct_id_mm: want millimetres above 0 and below innerduct_od_mm (32), got 32"}},
 		{"negative splice slack", "campus: [c]\ndesign: {splice_slack_m: -1}\n", []string{"plan.yaml:2:26: design.splice_slack_m: want metres from 0 to 1000, got -1"}},
 		{"splice slack a reel cannot carry", "campus: [c]\ndesign: {reel_m: 105, waste_pct: 5, splice_slack_m: 50}\n",
-			[]string{"plan.yaml:2:53: design.splice_slack_m: want less than half of the channel a reel carries (reel_m / (1 + waste_pct/100) / 2 = 50.00 metres), got 50"}},
+			[]string{"plan.yaml:2:53: design.splice_slack_m: want at most 49.50 metres: a reel carries reel_m / (1 + waste_pct/100) = 100.00 m of channel, the splicing slack at both its joined ends (2 × splice_slack_m) and at least 1 m of route besides; got 50"}},
+		{"splice slack leaving a reel 4 cm of route", "campus: [c]\ndesign: {reel_m: 100, splice_slack_m: 47.6}\n", // review 15 F5
+			[]string{"plan.yaml:2:39: design.splice_slack_m: want at most 47.11 metres: a reel carries reel_m / (1 + waste_pct/100) = 95.24 m of channel"}},
 		{"negative sidewall limit", "campus: [c]\ndesign: {pull_max_swbp_n_per_m: -1}\n", []string{"plan.yaml:2:33: design.pull_max_swbp_n_per_m: want N/m from 0 to 100000, got -1"}},
 		{"several problems at once", "campus: [c]\ndefaults: {strands: 0, growth: -1}\ndesign: {snap_m: 0}\n",
 			[]string{"defaults.strands", "defaults.growth", "design.snap_m"}},
@@ -102,6 +104,33 @@ func TestParsePlanErrors(t *testing.T) {
 				}
 			}
 		})
+	}
+}
+
+// TestSpliceSlackLimit: a reel between two joins carries its ends' splicing slack and at least
+// MinReelRouteM (1 m) of route besides (review 15 F5; common practice, no published source):
+// either side of the limit, at the default 5 % waste and at 0 %.
+func TestSpliceSlackLimit(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		design string
+		ok     bool
+	}{
+		{"{reel_m: 100, splice_slack_m: 47.11}", true}, // 95.24 m a reel, 1.02 m of route
+		{"{reel_m: 100, splice_slack_m: 47.12}", false},
+		{"{reel_m: 100, splice_slack_m: 45}", true},                 // 5.24 m of route: the demo at reel 100 (review 15 F0)
+		{"{reel_m: 105, waste_pct: 5, splice_slack_m: 49.5}", true}, // exactly 1 m
+		{"{reel_m: 105, waste_pct: 5, splice_slack_m: 49.51}", false},
+		{"{reel_m: 100, waste_pct: 0, splice_slack_m: 49.5}", true},
+		{"{reel_m: 100, waste_pct: 0, splice_slack_m: 49.6}", false},
+	} {
+		_, err := ParsePlan("plan.yaml", []byte("campus: [c]\ndesign: "+tc.design+"\n"))
+		if got := err == nil; got != tc.ok {
+			t.Errorf("%s: accepted %v, want %v (%v)", tc.design, got, tc.ok, err)
+		}
+		if err != nil && !strings.Contains(err.Error(), "design.splice_slack_m: want at most") {
+			t.Errorf("%s: %v, want design.splice_slack_m named", tc.design, err)
+		}
 	}
 }
 

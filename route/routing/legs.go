@@ -219,8 +219,7 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 	plenum := false
 	types := map[string]bool{}
 	seen := map[string]bool{}
-	var pass []int                   // the nodes of the turn edges the route is passing, in travel order
-	throughM := map[string]float64{} // the longest crossing of each building passed through along tunnels and trays across it (geo.Span.Through)
+	var pass []int // the nodes of the turn edges the route is passing, in travel order
 	for k, h := range ol.Hops {
 		x, extra := lay.isExtra(len(s.Net.Spans), h.Edge)
 		if extra && x.kind == edgeTurn {
@@ -249,11 +248,6 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 		beneath := sp.Beneath
 		for _, c := range sp.Through {
 			beneath = append(slices.Clip(beneath), c.Building)
-			if c.Building != leg.Link.To && c.Building != leg.Link.From {
-				// Each crossing is counted from its own point of entrance (NFPA 70 770.48(A)):
-				// a building crossed twice is inside for the longer crossing, not the sum.
-				throughM[c.Building] = max(throughM[c.Building], c.LengthM)
-			}
 		}
 		if !h.Forward && len(beneath) > 1 {
 			beneath = slices.Clone(beneath)
@@ -296,11 +290,11 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 	// (The demand counted the stretch every route takes, endIndoorM: the route's own replaces it.)
 	facts.InsideAM += interiorM(s, leg.Link.To, ol) + indoorM(s, leg.Link.To, ol, true) - info.indoorTo
 	facts.InsideBM += interiorM(s, leg.Link.From, ol) + indoorM(s, leg.Link.From, ol, false) - info.indoorFrom
-	// Inside a building the route passes through: its pathways drawn inside it and the
-	// tunnels and trays across it (NFPA 70 770.48(A) counts from the wall where the cable
-	// enters it; the rule through-15m), each building once however often it is crossed.
+	// Inside a building the route passes through: its longest run inside it (crossedM; NFPA
+	// 70 770.48(A) counts from the wall where the cable enters it; the rule through-15m), each
+	// building once however often it is crossed.
 	for _, b := range slices.Compact(slices.Sorted(slices.Values(leg.Crosses))) {
-		in := interiorM(s, b, ol) + throughM[b]
+		in := crossedM(s, b, ol)
 		facts.CrossedInsideM += in
 		if in > facts.CrossedInsideMaxM {
 			facts.CrossedInsideMaxM, facts.CrossedBuilding = in, b
@@ -380,9 +374,10 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 		}
 		fm := withCable(facts, mine)
 		if again := cm.eng.ChooseLaid(fm, c.Medium, media.Laying{Construction: c.Construction, Inside: c.Inside, At: c.InsideAt}); again.Feasible {
+			// The reason is the leg's own: its channel, cost and loss on the cable it buys; how
+			// it was chosen is a note (review 15 F2: the first choice's channel and cost led it).
 			again.Rejected, again.Code = c.Rejected, c.Code
-			again.Reason = fmt.Sprintf("%s; measured on its own cable (%d mid-span joins, %s m of channel; it was chosen on %d joins): %s, %s",
-				c.Reason, mine.Joins, strconv.FormatFloat(mine.ChannelM, 'f', 2, 64), t.Joins, again.Application, lossText(again.Losses))
+			again.Reason = fmt.Sprintf("%s; chosen as %s on %d mid-span joins, measured on its own cable's %d", again.Reason, media.Verdict(c.Code), t.Joins, mine.Joins)
 			ch, leg.Cable, facts, settled = again, mine, fm, true
 			break
 		}
@@ -443,22 +438,6 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 	if ch.Medium != optionMedium(option) {
 		leg.Choice += fmt.Sprintf(" (the optimizer routed it for %s)", optionMedium(option))
 	}
-}
-
-// lossText is the worst operating loss of a budget as a reason gives it: "loss 3.58 dB
-// against 4.50 dB at 1310 nm (margin 0.92 dB)"; "no loss budget" without one (copper).
-func lossText(ls []media.Loss) string {
-	w, found := media.Loss{}, false
-	for _, l := range ls {
-		if l.Operating && (!found || l.MarginDB < w.MarginDB) {
-			w, found = l, true
-		}
-	}
-	if !found {
-		return "no loss budget"
-	}
-	return fmt.Sprintf("loss %s dB against %s dB at %d nm (margin %s dB)", strconv.FormatFloat(w.LossDB, 'f', 2, 64),
-		strconv.FormatFloat(w.LimitDB, 'f', 2, 64), w.WavelengthNM, strconv.FormatFloat(w.MarginDB, 'f', 2, 64))
 }
 
 // sameLaying reports whether two choices lay the same cable: medium, construction and the
@@ -633,6 +612,66 @@ func fillReport(s *site.Site, prob *optimize.Problem, sol *optimize.Solution) []
 	}
 	sort.Slice(out, func(i, j int) bool { return out[i].Span < out[j].Span })
 	return out
+}
+
+// crossedM is the longest run of the route inside building b, which it passes through (b is
+// neither end's), in metres. NFPA 70 770.48(A) counts unlisted cable inside a building from
+// its point of entrance, where it crosses the wall (from memory; the rule through-15m), so
+// each time the route enters b is a run of its own, the longest counted (review 15 F7: two
+// crossings of a U-shaped building are not summed), and a run goes on over the junctions
+// inside b however its pathway is split into spans there: a tunnel split at a vertex inside b
+// is one crossing, as drawn whole (neither piece runs wall to wall: review 15's metamorphic
+// gap). A tunnel or tray span is inside b as geo measured it, from an end inside b to the
+// wall (geo.Span.Indoors, the whole span when it crosses no wall) and from wall to wall across
+// b (geo.Span.Through), whether or not its pathway counts as drawn inside b (a tunnel between
+// two arms of a U-shaped building has both ends inside and its middle outside); a span of any
+// other pathway drawn inside b (geo.Transit.Interior) is inside whole.
+func crossedM(s *site.Site, b string, ol optimize.Leg) float64 {
+	var interior []string
+	if t, ok := s.Net.TransitOf(b); ok {
+		interior = t.Interior
+	}
+	best, runM, in := 0.0, 0.0, false
+	end := func() { // the run reaches b's wall
+		if in {
+			best = max(best, runM)
+		}
+		runM, in = 0, false
+	}
+	for _, h := range ol.Hops {
+		if h.Edge >= len(s.Net.Spans) {
+			continue // an entrance or turn edge: no length, and a run inside goes on
+		}
+		sp := &s.Net.Spans[h.Edge]
+		if sp.Type != geo.TypeTunnel && sp.Type != geo.TypeTray {
+			if slices.Contains(interior, sp.PathwayID) {
+				runM, in = runM+sp.LengthM, true
+			} else {
+				end()
+			}
+			continue
+		}
+		// The end the route enters the span at: its From end when travelled forward.
+		first, ok := sp.IndoorM(b, !h.Forward)
+		if ok && first >= sp.LengthM { // inside b from end to end, across no wall
+			runM, in = runM+sp.LengthM, true
+			continue
+		}
+		if ok {
+			runM, in = runM+first, true
+		}
+		end()
+		for _, c := range sp.Through {
+			if c.Building == b {
+				best = max(best, c.LengthM)
+			}
+		}
+		if last, ok := sp.IndoorM(b, h.Forward); ok {
+			runM, in = last, true
+		}
+	}
+	end()
+	return best
 }
 
 // interiorM is the metres of the route's spans drawn inside building b (geo.Transit.Interior).
