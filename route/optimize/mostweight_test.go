@@ -340,3 +340,71 @@ func TestBestBelowPairToTheCent(t *testing.T) {
 		t.Fatalf("only %d options with a pair: the instances do not exercise pairBelow", pairs)
 	}
 }
+
+// TestRouteWithinAtItsOptimum asks routeWithin, on every option whose reach binds (its
+// cheapest route, which route reports too long, is cheaper than every route within reach) of
+// 3,000 seeded instances of TestBestBelowToTheCent's kind, for a route of weight at most W,
+// the cheapest within reach by enumeration: it must return one of weight W (the label search
+// is exact: Desrochers and Soumis 1988; LARAC's bound, Handler and Zang 1980, never exceeds
+// W), also capped at W + 1 and uncapped, and none capped at W - 1. Where LARAC's own path is
+// dearer than W only the label search, capped at min(LARAC's cost, W), finds it: catches M5
+// directly.
+func TestRouteWithinAtItsOptimum(t *testing.T) {
+	t.Parallel()
+	r := rand.New(rand.NewPCG(15, 3))
+	binds, laracDearer := 0, 0
+	for c := 0; c < 3000; c++ {
+		sv := capSolver(capInstance(r, false))
+		for o, co := range enumerate(sv) {
+			if !co.ok || co.free >= co.weight {
+				continue
+			}
+			binds++
+			name := fmt.Sprintf("case %d option %d", c, o)
+			cheapest, cw, ok, tooLong := sv.route(0, o, math.MaxInt64)
+			if ok || !tooLong || cw != co.free {
+				t.Fatalf("%s: route gave ok %v, too long %v, weight %d; want the cheapest route %d, too long", name, ok, tooLong, cw, co.free)
+			}
+			for _, most := range []int64{math.MaxInt64, co.weight + 1, co.weight, co.weight - 1} {
+				hops, w, ok := sv.routeWithin(0, o, cheapest, most)
+				if most < co.weight {
+					if ok {
+						t.Fatalf("%s: routeWithin capped at %d returned a route of %d, the optimum within reach is %d", name, most, w, co.weight)
+					}
+					continue
+				}
+				if !ok {
+					t.Fatalf("%s: routeWithin capped at %d returned none; the optimum within reach is %d", name, most, co.weight)
+				}
+				pw, l := pathEval(sv.net, hops, sv.weightFor(0, o))
+				if w != co.weight || pw != w || l > sv.reach[0][o] {
+					t.Fatalf("%s: routeWithin capped at %d: weight %d (legs %d), %d mm, reach %d mm; the optimum within reach is %d",
+						name, most, w, pw, l, sv.reach[0][o], co.weight)
+				}
+			}
+			// LARAC's path alone, as routeWithin starts it: from the cheapest and the shortest route.
+			s, tt := sv.from[0], sv.to[0]
+			prof := sv.optProf[0][o]
+			w := sv.weightFor(0, o)
+			lt := sv.lenTreeOf(tt, sv.profLen[prof])
+			lw := func(e int32) (int64, bool) {
+				if _, ok := w(e); !ok {
+					return 0, false
+				}
+				return sv.net.lenMM[e], true
+			}
+			if !sv.srch.run(s, tt, lw, treeH(lt)) {
+				t.Fatalf("%s: no shortest route", name)
+			}
+			pd := sv.srch.pathTo(tt)
+			pl := larac(sv.net, sv.rc, s, tt, sv.reach[0][o], w, sv.bound(tt, prof).t.dist, lt.dist, cheapest, pd, math.MaxInt64)
+			if lc, _ := pathEval(sv.net, pl, w); lc > co.weight {
+				laracDearer++
+			}
+		}
+	}
+	t.Logf("%d options where reach binds, LARAC's path dearer than the optimum on %d", binds, laracDearer)
+	if binds < 900 || laracDearer < 30 {
+		t.Fatalf("%d options where reach binds, %d where LARAC's path is dearer: too few to hold the label search's cap", binds, laracDearer)
+	}
+}
