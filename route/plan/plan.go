@@ -20,6 +20,20 @@ const (
 	RedundancyDiverse = "diverse"
 )
 
+// FutureRateNone is the future_rate that plans a link for its rate alone, the default; ""
+// (the key absent or empty) says the same. A link's own future_rate: none overrides a
+// future rate of the defaults.
+const FutureRateNone = "none"
+
+// FutureRate is the future rate the value v of a future_rate key asks for: "" for none
+// (FutureRateNone or ""), v otherwise. The one place that reads "none".
+func FutureRate(v string) string {
+	if v == FutureRateNone {
+		return ""
+	}
+	return v
+}
+
 // Objective values of design.objective.
 const (
 	ObjectiveCost   = "cost"
@@ -84,7 +98,7 @@ func (f *FileList) UnmarshalYAML(n *yaml.Node) error {
 // Defaults apply to every link that does not say otherwise.
 type Defaults struct {
 	Rate       string  `yaml:"rate"`        // e.g. "10G"
-	FutureRate string  `yaml:"future_rate"` // "" when none
+	FutureRate string  `yaml:"future_rate"` // "" or FutureRateNone when none (FutureRate)
 	Strands    int     `yaml:"strands"`     // strands required before growth
 	Growth     float64 `yaml:"growth"`      // growth fraction, 0.5 = 50 %
 	Redundancy string  `yaml:"redundancy"`  // RedundancyNone or RedundancyDiverse
