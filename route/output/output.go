@@ -1078,8 +1078,12 @@ func NoNewTrenchNote(s Summary) string {
 			why = append(why, fmt.Sprintf("%d %s", p.n, p.what))
 		}
 	}
-	return fmt.Sprintf("%s; %s still dug into existing pathways (%s): a cable changes duct bank only in a structure",
-		note, Counted(s.HandholesToBuild, "handhole is", "handholes are"), strings.Join(why, ", "))
+	turns := ""
+	if s.TurnHandholes > 0 {
+		turns = " (design.turn_handholes: false keeps routes to existing structures)"
+	}
+	return fmt.Sprintf("%s; %s still dug into existing pathways (%s): a cable changes duct bank only in a structure%s",
+		note, Counted(s.HandholesToBuild, "handhole is", "handholes are"), strings.Join(why, ", "), turns)
 }
 
 // NotPricedNote says, when the book leaves out prices the bill needs, that the total leaves

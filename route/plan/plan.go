@@ -120,8 +120,12 @@ type LinkSpec struct {
 
 // Design holds the plan's design switches; lengths are metres, losses dB.
 type Design struct {
-	LossMarginDB       float64 `yaml:"loss_margin_db"` // a floor on every fibre link's margin, multimode included; 0: the catalog's margin policy alone
-	AllowNewTrench     bool    `yaml:"allow_new_trench"`
+	LossMarginDB   float64 `yaml:"loss_margin_db"` // a floor on every fibre link's margin, multimode included; 0: the catalog's margin policy alone
+	AllowNewTrench bool    `yaml:"allow_new_trench"`
+	// TurnHandholes lets a route change from one pathway to another at a junction without a
+	// structure, where the plan then digs a handhole (a cable changes duct bank only in a
+	// structure); false: routes change pathway only at existing structures and in buildings.
+	TurnHandholes      bool    `yaml:"turn_handholes"`
 	AllowOutdoorCopper bool    `yaml:"allow_outdoor_copper"`
 	MaxLateralM        float64 `yaml:"max_lateral_m"`
 	SnapM              float64 `yaml:"snap_m"`
@@ -225,6 +229,7 @@ var Default = Plan{
 		// margins) says what each class of link keeps.
 		LossMarginDB:   0,
 		AllowNewTrench: true,
+		TurnHandholes:  true,
 		MaxLateralM:    30,
 		SnapM:          0.5,
 		SlackM:         5,

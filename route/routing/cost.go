@@ -70,12 +70,17 @@ type Model struct {
 }
 
 // Edge flags. flagDuct marks a duct edge, so that a cable too large for the design's
-// innerduct can be kept off ducts. Every other flag is a span class (spanClass): the bit
-// firstClassFlag << k marks the edges of the k-th class in the campus, and an option
-// excludes the classes on which the rule engine does not let its medium run.
+// innerduct can be kept off ducts. flagTurn, the top bit, marks a turn edge where turning
+// adds a handhole for that alone (not into a run where new pathway joins, whose joining builds
+// one) when design.turn_handholes is false, and every option excludes it then; with the
+// default the problem is the same as before the setting was (its fingerprint too). Every other
+// flag is a span class (spanClass): the bit firstClassFlag << k marks the edges of the k-th
+// class in the campus, and an option excludes the classes on which the rule engine does not
+// let its medium run.
 const (
 	flagDuct       = optimize.FlagOutdoor << 1
 	firstClassFlag = flagDuct << 1
+	flagTurn       = uint64(1) << 63
 )
 
 // spanClass is what a span tells the rule engine about a route that runs on it: its EMI
@@ -182,6 +187,9 @@ func (lay *layout) explain(in optimize.Infeasible, l *site.Link, prob *optimize.
 			var parts []string
 			if block&flagDuct != 0 {
 				parts = append(parts, "ducts, where its cable does not fit the innerduct")
+			}
+			if block&flagTurn != 0 {
+				parts = append(parts, "turns between pathways at junctions without a structure (design.turn_handholes: false builds no handhole there)")
 			}
 			for _, r := range reasons {
 				parts = append(parts, strings.Join(on[r], " and ")+" spans ("+r+")")
@@ -454,6 +462,9 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 			// between equal routes (TestStartRoutesRebuildsSolution). The plan's evaluation
 			// prices them on the routes returned (passGapCents; README, "One cost model").
 			e.ID, e.PerCableCents = "turn at "+x.junction, m.cents(items.AtJunctions(m.prices, crews, crews)...)
+			if !d.TurnHandholes && !lay.isJoin(x.from) && !lay.isJoin(x.to) {
+				e.Flags = flagTurn
+			}
 			// Its loop is in the channel all the same (its share of it: reach is not priced, so
 			// halves that round apart choose nothing).
 			e.ReachM = crews * d.SlackLoopStructureM
@@ -903,6 +914,9 @@ func (m *Model) addOption(s *site.Site, dm *optimize.Demand, info *demandInfo, m
 	second := int64(0)
 	if e.diverse {
 		second = fixed
+	}
+	if !d.TurnHandholes {
+		exclude |= flagTurn // routes change pathway only where a structure stands
 	}
 	if d.Innerduct() {
 		if !items.InnerductFits(d, od) {
