@@ -114,24 +114,29 @@ const structureMissFactor = 4
 
 // String says what was missed and by how much, e.g. "pathway D-12 ends 0.8 m from pathway
 // T-3, beyond snap_m 0.5".
-func (m NearMiss) String() string {
+func (m NearMiss) String() string { return "pathway " + m.Pathway + " ends " + m.Gap() }
+
+// Gap is String without the pathway's name: "0.8 m from pathway T-3, beyond snap_m 0.5". The
+// warning about an end joined to nothing carries it too (tester 12 F12: the plan's report said
+// "joined to nothing" where check said by how much the end misses what).
+func (m NearMiss) Gap() string {
 	if m.Kind == KindStructure {
 		instead := ""
 		if len(m.Joins) > 0 {
 			instead = "; it joins pathway " + strings.Join(m.Joins, " and ") + " there instead"
 		}
-		return fmt.Sprintf("pathway %s ends %s m from %s %s, beyond snap_m %s%s (drawn to its wall? snap_m %s would join it)",
-			m.Pathway, fmtBeyond(m.DistanceM, m.SnapM), m.StructureType, m.Target, fmtM(m.SnapM), instead, snapToJoin(m.DistanceM))
+		return fmt.Sprintf("%s m from %s %s, beyond snap_m %s%s (drawn to its wall? snap_m %s would join it)",
+			fmtBeyond(m.DistanceM, m.SnapM), m.StructureType, m.Target, fmtM(m.SnapM), instead, snapToJoin(m.DistanceM))
 	}
 	what := "pathway"
 	if m.Kind == KindBuilding {
 		what = "the footprint of building"
 	}
 	if m.Lateral {
-		return fmt.Sprintf("pathway %s ends %s m from %s %s, beyond snap_m %s; the plan reaches it there by a counted lateral and a new entrance (drawn to its wall? snap_m %s would join it)",
-			m.Pathway, fmtBeyond(m.DistanceM, m.SnapM), what, m.Target, fmtM(m.SnapM), snapToJoin(m.DistanceM))
+		return fmt.Sprintf("%s m from %s %s, beyond snap_m %s; the plan reaches it there by a counted lateral and a new entrance (drawn to its wall? snap_m %s would join it)",
+			fmtBeyond(m.DistanceM, m.SnapM), what, m.Target, fmtM(m.SnapM), snapToJoin(m.DistanceM))
 	}
-	return fmt.Sprintf("pathway %s ends %s m from %s %s, beyond snap_m %s", m.Pathway, fmtBeyond(m.DistanceM, m.SnapM), what, m.Target, fmtM(m.SnapM))
+	return fmt.Sprintf("%s m from %s %s, beyond snap_m %s", fmtBeyond(m.DistanceM, m.SnapM), what, m.Target, fmtM(m.SnapM))
 }
 
 // snapToJoin is the snap_m, in whole tenths of a metre, that takes in distance d.
@@ -954,6 +959,11 @@ func (b *builder) dangling(n *Network) {
 		degree[m.Junction] = m.Degree
 	}
 	seen := make(map[string]bool)
+	type dangle struct {
+		warn              int // index in b.warns
+		pathway, junction string
+	}
+	var dangles []dangle
 	for pi := range b.parts {
 		p := &b.parts[pi]
 		for _, v := range [2]int{0, len(p.xy) - 1} {
@@ -971,6 +981,7 @@ func (b *builder) dangling(n *Network) {
 			}
 			seen[id] = true
 			pw := b.c.Pathways[p.pw]
+			dangles = append(dangles, dangle{len(b.warns), pw.ID, id})
 			b.warns = append(b.warns, warnRec{pw.Source, pw.ID, fmt.Sprintf(
 				"pathway %q ends at %s, %s joined to nothing: no other pathway, structure, entrance or building footprint within %s m (design: snap_m)",
 				pw.ID, fmtLL(p.ll[v][0]), fmtLL(p.ll[v][1]), fmtM(b.snap))})
@@ -994,6 +1005,18 @@ func (b *builder) dangling(n *Network) {
 		}
 		return x.Target < y.Target
 	})
+	// Each end joined to nothing is warned about with what it nearly reaches, as check lists it.
+	for _, d := range dangles {
+		var gaps []string
+		for _, m := range n.NearMisses {
+			if m.Pathway == d.pathway && m.Junction == d.junction {
+				gaps = append(gaps, m.Gap())
+			}
+		}
+		if len(gaps) > 0 {
+			b.warns[d.warn].msg += "; it ends " + strings.Join(gaps, "; and ")
+		}
+	}
 }
 
 // nearMisses lists the pathways and footprints within NearMissM of vertex v of part pi (an

@@ -209,6 +209,13 @@ func TestIslandNearMiss(t *testing.T) {
 		!strings.Contains(ws[0].Message, `pathway "D-12" ends at 10.0000000, 50.0000072`) {
 		t.Errorf("dangling-end warnings %v; want D-12's and P-9's", ws)
 	}
+	// Each warning says what its end nearly reaches, in check's words (NearMiss.Gap, one
+	// function for both): the owner reads the warning, and the gap is what to act on (tester 12 F12).
+	for i, want := range []string{"; it ends 0.8 m from pathway T-3, beyond snap_m 0.5", "; it ends 2.0 m from the footprint of building X, beyond snap_m 0.5"} {
+		if i < len(ws) && !strings.HasSuffix(ws[i].Message, want) {
+			t.Errorf("warning %d: got %q, want it to end %q", i, ws[i].Message, want)
+		}
+	}
 
 	// A larger snap joins D-12 to T-3: no near miss, no warning for it.
 	n2, err := Build(&c, Options{SnapM: 1})

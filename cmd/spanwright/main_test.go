@@ -201,16 +201,20 @@ func TestBadInput(t *testing.T) {
 // TestCopperReasonNamesItsWay: a link no medium can route (fibre out of reach, copper kept off
 // outdoor spans by copper-outdoor, NFPA 70 800.90) says of copper what on the way between its
 // buildings keeps it out, the aerial span and the rule, not every kind of span of the campus
-// it may not use (the tunnel to NEAR is off the way).
+// it may not use (the tunnel to NEAR is off the way). It comes after the fibre options, which
+// the rules let onto the pathways (tester 12 F5).
 func TestCopperReasonNamesItsWay(t *testing.T) {
 	out := filepath.Join(t.TempDir(), "out")
 	stdout, msg, code := run(t, "plan", "testdata/plans/far.yaml", "--out", out)
 	if code != exitInfeasible {
 		t.Fatalf("exit %d, want %d (%s)", code, exitInfeasible, msg)
 	}
-	const want = "HQ-FAR/primary: cat6a: every pathway between HQ and FAR runs on spans it may not use; the shortest runs on aerial spans (cat6a rejected by copper-outdoor: the channel leaves the building"
+	const want = "; cat6a: every pathway between HQ and FAR runs on spans it may not use; the shortest runs on aerial spans (cat6a rejected by copper-outdoor: the channel leaves the building"
 	if !strings.Contains(stdout, want) {
 		t.Errorf("output lacks %q:\n%s", want, stdout)
+	}
+	if !strings.Contains(stdout, "HQ-FAR/primary: om3: ") {
+		t.Errorf("the reason does not lead with fibre:\n%s", stdout)
 	}
 	for _, line := range strings.Split(stdout, "\n") {
 		if strings.Contains(line, "HQ-FAR/primary") && strings.Contains(line, "tunnel") {

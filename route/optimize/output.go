@@ -273,12 +273,38 @@ func (sv *solver) reason(d int) (string, []OptionFailure) {
 			f.Kind, f.ShortestM, f.ReachM = FailReach, float64(lt.dist[s])/mmPerM, op.MaxRouteM
 			msgs = append(msgs, fmt.Sprintf("%s: shortest route %.3f m exceeds reach %.3f m", name, f.ShortestM, op.MaxRouteM))
 		default:
-			f.Kind = FailDucts
+			f.Kind, f.Full = FailDucts, sv.fullOn(d, o, lt)
 			msgs = append(msgs, fmt.Sprintf("%s: every route within reach crosses ducts too full for the cable", name))
 		}
 		fails = append(fails, f)
 	}
 	return strings.Join(msgs, "; "), fails
+}
+
+// fullOn lists the capacity-limited edges of the shortest path to demand d's anchor on lt
+// (its option o's edges, ignoring fill) that have no room for the option's cable in the final
+// state (weightFor refuses them, by the one fill rule, penalty), each with its ducts and the
+// cables the plan pulls there, in path order (OptionFailure.Full).
+func (sv *solver) fullOn(d, o int, lt *tree) []FullEdge {
+	w := sv.weightFor(d, o)
+	var full []FullEdge
+	for _, h := range lt.pathFrom(sv.net, sv.from[d]) {
+		e := h.Edge
+		if !sv.limited[e] {
+			continue
+		}
+		if _, ok := w(int32(e)); ok {
+			continue
+		}
+		f := FullEdge{Edge: e, Ducts: sv.p.Edges[e].Ducts + sv.st.added[e]}
+		for _, u := range sv.st.users[e] {
+			if c := sv.st.ch[u]; c.opt >= 0 {
+				f.Cables += sv.cables(int(u), c.opt)
+			}
+		}
+		full = append(full, f)
+	}
+	return full
 }
 
 // singlePoint explains why diverse demand d got one leg, for its option o.

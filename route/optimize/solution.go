@@ -130,6 +130,17 @@ type OptionFailure struct {
 	BlockFlags uint64
 	ShortestM  float64 // for FailReach: the shortest usable path, in metres
 	ReachM     float64 // for FailReach: the option's MaxRouteM
+	// Full, for FailDucts, are the capacity-limited edges of the shortest path the option may
+	// use (within its reach) that have no room for its cable as the plan fills them, in path
+	// order: where ducts would have to be added for the demand to be routed that way.
+	Full []FullEdge
+}
+
+// FullEdge is an edge with no room for an infeasible option's cable (OptionFailure.Full).
+type FullEdge struct {
+	Edge   int // index into Problem.Edges
+	Ducts  int // the edge's spare ducts before the plan (Edge.Ducts), and those the plan adds
+	Cables int // cables the plan pulls along it, every cable of every routed leg
 }
 
 // EdgeFill is the load of one edge that carries at least one cable.

@@ -8,7 +8,7 @@ import (
 )
 
 // CheckRates reports every rate of the plan the catalog does not know: the defaults' and
-// each link's own.
+// each link's own. A future_rate may also be FutureRateNone.
 func (p *Plan) CheckRates(cat *media.Catalog) []error {
 	var errs []error
 	check := func(key, rate string) {
@@ -17,10 +17,10 @@ func (p *Plan) CheckRates(cat *media.Catalog) []error {
 		}
 	}
 	check("defaults.rate", p.Defaults.Rate)
-	check("defaults.future_rate", p.Defaults.FutureRate)
+	check("defaults.future_rate", FutureRate(p.Defaults.FutureRate))
 	for i, l := range p.Links {
 		check(fmt.Sprintf("links[%d].rate", i), l.Rate)
-		check(fmt.Sprintf("links[%d].future_rate", i), l.FutureRate)
+		check(fmt.Sprintf("links[%d].future_rate", i), FutureRate(l.FutureRate))
 	}
 	return errs
 }

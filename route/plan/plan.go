@@ -22,6 +22,20 @@ const (
 	RedundancyDiverse = "diverse"
 )
 
+// FutureRateNone is the future_rate that plans a link for its rate alone, the default; ""
+// (the key absent or empty) says the same. A link's own future_rate: none overrides a
+// future rate of the defaults.
+const FutureRateNone = "none"
+
+// FutureRate is the future rate the value v of a future_rate key asks for: "" for none
+// (FutureRateNone or ""), v otherwise. The one place that reads "none".
+func FutureRate(v string) string {
+	if v == FutureRateNone {
+		return ""
+	}
+	return v
+}
+
 // Objective values of design.objective.
 const (
 	ObjectiveCost   = "cost"
@@ -86,7 +100,7 @@ func (f *FileList) UnmarshalYAML(n *yaml.Node) error {
 // Defaults apply to every link that does not say otherwise.
 type Defaults struct {
 	Rate       string  `yaml:"rate"`        // e.g. "10G"
-	FutureRate string  `yaml:"future_rate"` // "" when none
+	FutureRate string  `yaml:"future_rate"` // "" or FutureRateNone when none (FutureRate)
 	Strands    int     `yaml:"strands"`     // strands required before growth
 	Growth     float64 `yaml:"growth"`      // growth fraction, 0.5 = 50 %
 	Redundancy string  `yaml:"redundancy"`  // RedundancyNone or RedundancyDiverse
@@ -108,8 +122,12 @@ type LinkSpec struct {
 
 // Design holds the plan's design switches; lengths are metres, losses dB.
 type Design struct {
-	LossMarginDB       float64 `yaml:"loss_margin_db"` // a floor on every fibre link's margin, multimode included; 0: the catalog's margin policy alone
-	AllowNewTrench     bool    `yaml:"allow_new_trench"`
+	LossMarginDB   float64 `yaml:"loss_margin_db"` // a floor on every fibre link's margin, multimode included; 0: the catalog's margin policy alone
+	AllowNewTrench bool    `yaml:"allow_new_trench"`
+	// TurnHandholes lets a route change from one pathway to another at a junction without a
+	// structure, where the plan then digs a handhole (a cable changes duct bank only in a
+	// structure); false: routes change pathway only at existing structures and in buildings.
+	TurnHandholes      bool    `yaml:"turn_handholes"`
 	AllowOutdoorCopper bool    `yaml:"allow_outdoor_copper"`
 	MaxLateralM        float64 `yaml:"max_lateral_m"`
 	SnapM              float64 `yaml:"snap_m"`
@@ -221,6 +239,7 @@ var Default = Plan{
 		// margins) says what each class of link keeps.
 		LossMarginDB:   0,
 		AllowNewTrench: true,
+		TurnHandholes:  true,
 		MaxLateralM:    30,
 		SnapM:          0.5,
 		SlackM:         5,

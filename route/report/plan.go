@@ -218,6 +218,7 @@ type planView struct {
 	Budget       string
 	Over         string
 	OverPct      string
+	BudgetScope  string // output.Summary.BudgetScope: the check covers the feasible legs only
 	IsOver       bool
 	HasBudget    bool
 	BudgetBar    struct{ TotalW, BudgetX, Class, LabelX, Anchor, BudgetAnchor string }
@@ -464,6 +465,7 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 		}
 		v.Over = money(over)
 		v.OverPct = strconv.FormatFloat(abs(*s.OverBudgetPct), 'f', 1, 64) + " %"
+		v.BudgetScope = s.BudgetScope()
 		top := max(s.TotalCents, budget)
 		const full = 560.0
 		v.BudgetBar.TotalW = num(full * float64(s.TotalCents) / float64(top))

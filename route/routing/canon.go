@@ -213,6 +213,18 @@ func (c *canonical) back(s *optimize.Solution) *optimize.Solution {
 	out.Infeasible = make([]optimize.Infeasible, len(s.Infeasible))
 	for i, in := range s.Infeasible {
 		in.Demand = c.dem[in.Demand]
+		if in.Options != nil {
+			in.Options = slices.Clone(in.Options)
+			for k, f := range in.Options {
+				if f.Full != nil {
+					full := slices.Clone(f.Full)
+					for j := range full {
+						full[j].Edge = c.edge[full[j].Edge]
+					}
+					in.Options[k].Full = full
+				}
+			}
+		}
 		out.Infeasible[i] = in
 	}
 	slices.SortFunc(out.Infeasible, func(a, b optimize.Infeasible) int { return cmp.Compare(a.Demand, b.Demand) })

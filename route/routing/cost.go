@@ -70,12 +70,17 @@ type Model struct {
 }
 
 // Edge flags. flagDuct marks a duct edge, so that a cable too large for the design's
-// innerduct can be kept off ducts. Every other flag is a span class (spanClass): the bit
-// firstClassFlag << k marks the edges of the k-th class in the campus, and an option
-// excludes the classes on which the rule engine does not let its medium run.
+// innerduct can be kept off ducts. flagTurn, the top bit, marks a turn edge where turning
+// adds a handhole for that alone (not into a run where new pathway joins, whose joining builds
+// one) when design.turn_handholes is false, and every option excludes it then; with the
+// default the problem is the same as before the setting was (its fingerprint too). Every other
+// flag is a span class (spanClass): the bit firstClassFlag << k marks the edges of the k-th
+// class in the campus, and an option excludes the classes on which the rule engine does not
+// let its medium run.
 const (
 	flagDuct       = optimize.FlagOutdoor << 1
 	firstClassFlag = flagDuct << 1
+	flagTurn       = uint64(1) << 63
 )
 
 // spanClass is what a span tells the rule engine about a route that runs on it: its EMI
@@ -142,13 +147,22 @@ func (m *Model) allowed(s *site.Site, medium string, rate, future float64, stran
 // explain puts the optimizer's account of link l's unroutable demand in the plan's words:
 // options by their medium and, for a medium no pathway on its own spans joins, the span
 // classes on the shortest way between the link's buildings that the rules keep it off, each
-// with the rule engine's reason (why; whyNot), not every class of the campus it may not use.
-func (lay *layout) explain(in optimize.Infeasible, l *site.Link, why func(medium string, c spanClass) string) string {
+// with the rule engine's reason (why; whyNot), not every class of the campus it may not use;
+// for an option that full ducts keep out, the spans of prob without room on its shortest way
+// (ductsFull). The options the rules let onto the pathways come first (full ducts, then
+// reach), those the rules keep off them after (tester 12 F5: the reason led with copper the
+// plan never allows): the fibre cause is what the reader acts on.
+func (lay *layout) explain(in optimize.Infeasible, l *site.Link, prob *optimize.Problem, why func(medium string, c spanClass) string) string {
 	if len(in.Options) == 0 {
 		return in.Reason
 	}
 	msgs := make([]string, len(in.Options))
+	rank := make([]int, len(in.Options))
 	for i, f := range in.Options {
+		rank[i] = slices.Index([]string{optimize.FailDucts, optimize.FailReach, optimize.FailNoPathFlags}, f.Kind)
+		if rank[i] < 0 {
+			rank[i] = 3
+		}
 		switch f.Kind {
 		case optimize.FailNoPath:
 			msgs[i] = f.Name + ": no pathway joins its two ends"
@@ -174,6 +188,9 @@ func (lay *layout) explain(in optimize.Infeasible, l *site.Link, why func(medium
 			if block&flagDuct != 0 {
 				parts = append(parts, "ducts, where its cable does not fit the innerduct")
 			}
+			if block&flagTurn != 0 {
+				parts = append(parts, "turns between pathways at junctions without a structure (design.turn_handholes: false builds no handhole there)")
+			}
 			for _, r := range reasons {
 				parts = append(parts, strings.Join(on[r], " and ")+" spans ("+r+")")
 			}
@@ -182,10 +199,64 @@ func (lay *layout) explain(in optimize.Infeasible, l *site.Link, why func(medium
 		case optimize.FailReach:
 			msgs[i] = fmt.Sprintf("%s: the shortest route it may use is %.1f m along pathways with the slack loops it leaves in structures, beyond the %.1f m it reaches there", f.Name, f.ShortestM, f.ReachM)
 		default:
-			msgs[i] = f.Name + ": every route within reach crosses ducts too full for the cable"
+			msgs[i] = f.Name + ": every route within reach crosses ducts too full for the cable" + ductsFull(prob, f.Full)
 		}
 	}
-	return strings.Join(msgs, "; ")
+	order := make([]int, len(msgs))
+	for i := range order {
+		order[i] = i
+	}
+	slices.SortStableFunc(order, func(a, b int) int { return rank[a] - rank[b] })
+	sorted := make([]string, len(msgs))
+	for k, i := range order {
+		sorted[k] = msgs[i]
+	}
+	return strings.Join(sorted, "; ")
+}
+
+// ductsFull names the edges of prob with no room for an option's cable on its shortest way
+// (optimize.OptionFailure.Full), each with its ducts and the cables the plan pulls in them, as
+// words to follow "crosses ducts too full for the cable": where ducts would have to be added
+// (tester 12 F5). "" when there are none to name (or no problem to name them by).
+func ductsFull(prob *optimize.Problem, full []optimize.FullEdge) string {
+	if prob == nil || len(full) == 0 {
+		return ""
+	}
+	var held, wide []string
+	for _, f := range full {
+		ed := &prob.Edges[f.Edge]
+		switch {
+		case ed.MayAddDucts():
+			wide = append(wide, ed.ID)
+		case f.Ducts == 0:
+			held = append(held, ed.ID+" (no spare duct)")
+		default:
+			held = append(held, fmt.Sprintf("%s (%s, %s of this plan in them)", ed.ID,
+				plural(f.Ducts, "spare duct", "spare ducts"), plural(f.Cables, "cable", "cables")))
+		}
+	}
+	spans := func(ids []string) string {
+		if len(ids) == 1 {
+			return "span " + ids[0]
+		}
+		return "spans " + strings.Join(ids, ", ")
+	}
+	var parts []string
+	if len(held) > 0 {
+		parts = append(parts, "no room on "+spans(held)+", where this plan may add no duct (NFPA 70 Chapter 9 fill)")
+	}
+	if len(wide) > 0 {
+		parts = append(parts, "its cable is wider than a duct of "+spans(wide)+" takes (NFPA 70 Chapter 9 fill)")
+	}
+	return ": on the shortest way it may take, " + strings.Join(parts, "; and ")
+}
+
+// plural is n with the noun for its count, e.g. "1 spare duct", "3 spare ducts".
+func plural(n int, one, many string) string {
+	if n == 1 {
+		return "1 " + one
+	}
+	return fmt.Sprintf("%d %s", n, many)
 }
 
 // whyNot is the rule engine's reason for keeping the option named name off spans of class c:
@@ -395,6 +466,9 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 			// between equal routes (TestStartRoutesRebuildsSolution). The plan's evaluation
 			// prices them on the routes returned (passGapCents; README, "One cost model").
 			e.ID, e.PerCableCents = "turn at "+x.junction, m.cents(items.AtJunctions(m.prices, crews, crews)...)
+			if !d.TurnHandholes && !lay.isJoin(x.from) && !lay.isJoin(x.to) {
+				e.Flags = flagTurn
+			}
 			// Its loop is in the channel all the same (its share of it: reach is not priced, so
 			// halves that round apart choose nothing).
 			e.ReachM = crews * d.SlackLoopStructureM
@@ -842,6 +916,9 @@ func (m *Model) addOption(s *site.Site, dm *optimize.Demand, info *demandInfo, m
 	second := int64(0)
 	if e.diverse {
 		second = fixed
+	}
+	if !d.TurnHandholes {
+		exclude |= flagTurn // routes change pathway only where a structure stands
 	}
 	if d.Innerduct() {
 		if !items.InnerductFits(d, od) {

@@ -484,7 +484,7 @@ func (l *layout) numberClasses(net *geo.Network) {
 	slices.SortFunc(l.classes, func(a, b spanClass) int {
 		return cmp.Or(strings.Compare(a.typ, b.typ), strings.Compare(a.emi, b.emi), boolCmp(a.outdoor, b.outdoor), boolCmp(a.plenum, b.plenum))
 	})
-	if len(l.classes) > 62 {
+	if len(l.classes) > 60 { // bits 3 to 62: firstClassFlag is 1 << 3, flagTurn 1 << 63
 		// 5 pathway types × 3 EMI levels × outdoors or not × plenum or not is 60 at most.
 		panic(fmt.Sprintf("route: %d span classes do not fit the optimizer's edge flags", len(l.classes)))
 	}

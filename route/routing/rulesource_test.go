@@ -119,14 +119,24 @@ func TestExplainInfeasible(t *testing.T) {
 		return medium + " rejected by copper-outdoor: outdoors"
 	}
 	all := firstClassFlag | firstClassFlag<<1 | firstClassFlag<<2
+	// The options the rules let onto the pathways come first, full ducts then reach, before
+	// those the rules keep off them (tester 12 F5); a full duct is named by its span, with its
+	// spare ducts and the cables in them (NFPA 70 Chapter 9 fill; a span that may have ducts
+	// added is full only for a cable wider than its ducts take).
+	prob := &optimize.Problem{Edges: []optimize.Edge{{ID: "LAT-01", Ducts: 1}, {ID: "SP-C-1"}, {ID: "NEW-1", Proposed: true}}}
 	got := lay.explain(optimize.Infeasible{Reason: "raw", Options: []optimize.OptionFailure{
 		{Name: "cat6a", Kind: optimize.FailNoPathFlags, ExcludeFlags: all | flagDuct, BlockFlags: firstClassFlag<<1 | firstClassFlag<<2 | flagDuct},
 		{Name: "om4", Kind: optimize.FailReach, ShortestM: 612.34, ReachM: 400},
 		{Name: "os2", Kind: optimize.FailNoPath},
-	}}, &site.Link{From: "ADM", To: "OBS"}, why)
-	want := "cat6a: every pathway between ADM and OBS runs on spans it may not use; the shortest runs on ducts, where its cable does not fit the innerduct; " +
+		{Name: "om5", Kind: optimize.FailDucts, Full: []optimize.FullEdge{{Edge: 0, Ducts: 1, Cables: 3}, {Edge: 1}, {Edge: 2, Ducts: 1}}},
+	}}, &site.Link{From: "ADM", To: "OBS"}, prob, why)
+	want := "om5: every route within reach crosses ducts too full for the cable: on the shortest way it may take, no room on spans " +
+		"LAT-01 (1 spare duct, 3 cables of this plan in them), SP-C-1 (no spare duct), where this plan may add no duct (NFPA 70 Chapter 9 fill); " +
+		"and its cable is wider than a duct of span NEW-1 takes (NFPA 70 Chapter 9 fill); " +
+		"om4: the shortest route it may use is 612.3 m along pathways with the slack loops it leaves in structures, beyond the 400.0 m it reaches there; " +
+		"cat6a: every pathway between ADM and OBS runs on spans it may not use; the shortest runs on ducts, where its cable does not fit the innerduct; " +
 		"and on buried spans (cat6a rejected by copper-outdoor: outdoors); and on duct, high EMI spans (cat6a rejected by copper-emi: EMI); " +
-		"om4: the shortest route it may use is 612.3 m along pathways with the slack loops it leaves in structures, beyond the 400.0 m it reaches there; os2: no pathway joins its two ends"
+		"os2: no pathway joins its two ends"
 	if got != want {
 		t.Errorf("got  %s\nwant %s", got, want)
 	}

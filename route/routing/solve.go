@@ -248,7 +248,7 @@ func (m *Model) measure(ctx context.Context, s *site.Site, lay *layout, prob *op
 	infeasible := map[int]string{}
 	for _, in := range sol.Infeasible {
 		info := infos[in.Demand]
-		infeasible[in.Demand] = lay.explain(in, &links[in.Demand], func(name string, c spanClass) string {
+		infeasible[in.Demand] = lay.explain(in, &links[in.Demand], prob, func(name string, c spanClass) string {
 			return m.whyNot(name, info, c)
 		})
 		if l := &links[in.Demand]; !m.design.AllowNewTrench {

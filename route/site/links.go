@@ -86,7 +86,7 @@ func (s *Site) Links(p *plan.Plan, hub string) ([]Link, []string, []error) {
 	}
 	base := func(from, to string) Link {
 		d := p.Defaults
-		return Link{From: from, To: to, Rate: d.Rate, FutureRate: d.FutureRate, Strands: d.Strands,
+		return Link{From: from, To: to, Rate: d.Rate, FutureRate: plan.FutureRate(d.FutureRate), Strands: d.Strands,
 			Growth: d.Growth, Diverse: d.Redundancy == plan.RedundancyDiverse}
 	}
 
@@ -147,7 +147,7 @@ func (s *Site) Links(p *plan.Plan, hub string) ([]Link, []string, []error) {
 			l.Rate = ls.Rate
 		}
 		if ls.FutureRate != "" {
-			l.FutureRate = ls.FutureRate
+			l.FutureRate = plan.FutureRate(ls.FutureRate) // "none" overrides the defaults' future rate
 		}
 		if ls.Strands > 0 {
 			l.Strands = ls.Strands

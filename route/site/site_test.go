@@ -11,6 +11,7 @@ import (
 	"gonum.org/v1/gonum/graph/path"
 
 	"spanwright/geo"
+	"spanwright/media"
 	"spanwright/route"
 	"spanwright/route/internal/testplan"
 	"spanwright/route/internal/testsite"
@@ -456,5 +457,52 @@ func TestCheckPiecesEveryEntrance(t *testing.T) {
 				t.Errorf("pieces %d, off the hub's %q; want %d, %q", r.Components, r.Unreachable, tc.pieces, tc.off)
 			}
 		})
+	}
+}
+
+// TestLinksFutureRateNone: future_rate none, the documented default (README, Plan), plans a
+// link for its rate alone, as the key absent or "" does, in the defaults and in a link entry,
+// where it overrides the defaults' future rate (tester 12 F9); CheckRates accepts it for
+// future_rate only, and still refuses it as a rate.
+func TestLinksFutureRateNone(t *testing.T) {
+	t.Parallel()
+	s := lineCampus(t, []string{"A", "C", "D"}, []float64{0, 100, 200}, map[string]string{"A": "mc"}, "")
+	p := plan.Default
+	p.File = "plan.yaml"
+	p.Defaults.FutureRate = "40G"
+	p.Links = []plan.LinkSpec{{Line: 1, To: "C", FutureRate: plan.FutureRateNone}}
+	links, _, errs := s.Links(&p, "A")
+	if len(errs) > 0 {
+		t.Fatal(errs)
+	}
+	got := map[string]string{}
+	for _, l := range links {
+		got[l.ID] = l.FutureRate
+	}
+	if got["A-C"] != "" || got["A-D"] != "40G" {
+		t.Errorf("future rates: got %q, want A-C none (\"\") over the defaults' 40G, A-D 40G", got)
+	}
+	for _, v := range []string{plan.FutureRateNone, ""} {
+		p.Defaults.FutureRate = v
+		p.Links = nil
+		links, _, errs := s.Links(&p, "A")
+		if len(errs) > 0 {
+			t.Fatal(errs)
+		}
+		for _, l := range links {
+			if l.FutureRate != "" {
+				t.Errorf("defaults.future_rate %q: link %s future rate %q, want none (\"\")", v, l.ID, l.FutureRate)
+			}
+		}
+	}
+	cat := media.DefaultCatalog()
+	p.Defaults.FutureRate = plan.FutureRateNone
+	p.Links = []plan.LinkSpec{{Line: 1, To: "C", FutureRate: plan.FutureRateNone}}
+	if errs := p.CheckRates(cat); len(errs) != 0 {
+		t.Errorf("future_rate none: got %v, want no problem", errs)
+	}
+	p.Defaults.Rate = plan.FutureRateNone
+	if errs := p.CheckRates(cat); len(errs) != 1 || !strings.Contains(errs[0].Error(), "defaults.rate") {
+		t.Errorf("rate none: got %v, want one problem at defaults.rate", errs)
 	}
 }
