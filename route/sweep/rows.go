@@ -132,9 +132,11 @@ func (r *Row) fill(s output.Summary) {
 	r.DemoPrices = s.DemoPrices != ""
 	r.ObjectiveCents, r.LowerBoundCents, r.GapPct = s.ObjectiveCents, s.LowerBoundCents, s.GapPct
 	r.StartedFrom = s.StartedFrom
-	r.Cautions = make([]string, len(s.Cautions))
-	for i, c := range s.Cautions {
-		r.Cautions[i] = c.Title
+	if s.Cautions != nil { // nil: a summary.json written before they were kept (--resume)
+		r.Cautions = make([]string, len(s.Cautions))
+		for i, c := range s.Cautions {
+			r.Cautions[i] = c.Title
+		}
 	}
 	hh := s.HandholesToBuild
 	r.HandholesToBuild = &hh

@@ -90,7 +90,8 @@ type Options struct {
 	CampusDatabase string
 	// Cold plans every scenario from scratch, as `spanwright plan` plans its plan alone. By
 	// default a scenario on the base scenario's network (the same campus files and noding)
-	// starts its search from the base scenario's routes (see Run).
+	// starts its search from the base scenario's routes where route.WarmStart finds that worth
+	// it (see Run), and is planned from scratch elsewhere.
 	Cold bool
 	// Preflight checks the inputs of every scenario of the sweep before anything is planned
 	// or written, and stops the sweep with every problem at once (see preflight) instead of
@@ -196,10 +197,13 @@ func Check(ctx context.Context, f *File, opt Options) error {
 // whatever opt.Jobs is.
 //
 // Warm start: unless opt.Cold, the base scenario (the first in sweep order) is planned first,
-// from scratch, and every other scenario on its network begins the optimizer's search from
-// its routes, read back from its routes.geojson as `spanwright plan --start-from` reads them
-// (so that command reproduces the scenario alone); the scenario's summary names the base
-// (started_from) and its inputs.sha256 lists the base's routes.geojson. A shard without the
+// from scratch, and every other scenario on its network for which route.WarmStart finds it
+// worth it (a routing problem beyond the optimizer's full search from scratch, and a route of
+// the base for one of its links: the same hub) begins the optimizer's search from
+// its routes; the others are planned from scratch, as `spanwright plan` plans them alone. The
+// base's routes are read back from its routes.geojson as `spanwright plan --start-from`
+// reads them (so that command reproduces a warm-started scenario alone); such a scenario's
+// summary names the base (started_from) and its inputs.sha256 lists the base's routes.geojson. A shard without the
 // base plans it too, without writing it, so every shard starts from the same routes.
 func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
 	r, err := newRunner(f, opt)
