@@ -199,12 +199,13 @@ func Check(ctx context.Context, f *File, opt Options) error {
 // Warm start: unless opt.Cold, the base scenario (the first in sweep order) is planned first,
 // from scratch, and every other scenario on its network for which route.WarmStart finds it
 // worth it (a routing problem beyond the optimizer's full search from scratch, and a route of
-// the base for one of its links: the same hub) begins the optimizer's search from
-// its routes; the others are planned from scratch, as `spanwright plan` plans them alone. The
+// the base for one of its links: the same hub) begins the optimizer's search from its
+// routes; the others are planned from scratch, as `spanwright plan` plans them alone. The
 // base's routes are read back from its routes.geojson as `spanwright plan --start-from`
 // reads them (so that command reproduces a warm-started scenario alone); such a scenario's
-// summary names the base (started_from) and its inputs.sha256 lists the base's routes.geojson. A shard without the
-// base plans it too, without writing it, so every shard starts from the same routes.
+// summary names the base (started_from) and its inputs.sha256 lists the base's
+// routes.geojson. A shard without the base plans it too, without writing it, so every shard
+// starts from the same routes.
 func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
 	r, err := newRunner(f, opt)
 	if err != nil {

@@ -652,3 +652,40 @@ func TestBuiltInsInPlan(t *testing.T) {
 		t.Errorf("the scenario with its own price book names the built-in one:\n%s", own)
 	}
 }
+
+// TestCarryHubLink: only an entry for the scenario's hub with no from (or from itself) is
+// carried the other way; a skip stays dropped, and an entry of the plan for the base's hub
+// already wins (site.Site.Links then drops the other, with its note); the same hub carries
+// nothing.
+func TestCarryHubLink(t *testing.T) {
+	t.Parallel()
+	cases := []struct {
+		name, base, scenario, want string
+	}{
+		{"carried", "hub: ADM\nlinks: [{to: LIB, redundancy: diverse}]", "hub: LIB\nlinks: [{to: LIB, redundancy: diverse}]",
+			"{to: ADM, redundancy: diverse, from: LIB}"},
+		{"same hub", "hub: ADM\nlinks: [{to: LIB, redundancy: diverse}]", "hub: ADM\nlinks: [{to: LIB, redundancy: diverse}]", ""},
+		{"skip stays dropped", "hub: ADM\nlinks: [{to: LIB, skip: true}]", "hub: LIB\nlinks: [{to: LIB, skip: true}]", ""},
+		{"the base's hub has its own", "hub: ADM\nlinks: [{to: LIB}, {to: ADM, rate: 1G}]", "hub: LIB\nlinks: [{to: LIB}, {to: ADM, rate: 1G}]", ""},
+		{"from another building stays", "hub: ADM\nlinks: [{to: LIB, from: ENG}]", "hub: LIB\nlinks: [{to: LIB, from: ENG}]", ""},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			var base, sc yaml.Node
+			if err := yaml.Unmarshal([]byte(tc.base), &base); err != nil {
+				t.Fatal(err)
+			}
+			if err := yaml.Unmarshal([]byte(tc.scenario), &sc); err != nil {
+				t.Fatal(err)
+			}
+			note := carryHubLink(sc.Content[0], base.Content[0])
+			out, err := yaml.Marshal(&sc)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if got := strings.Contains(string(out), tc.want) && (note != "") == (tc.want != ""); !got || (tc.want == "" && strings.Contains(string(out), "carried")) {
+				t.Errorf("%s: note %q, plan:\n%s\nwant %q", tc.name, note, out, tc.want)
+			}
+		})
+	}
+}
