@@ -51,10 +51,14 @@ const (
 	CautionCopper   = "copper-outdoor"
 )
 
+// PlanningAid says what spanwright's output is and is not: said wherever a plan's figures are
+// read (before the cautions, summary.json, a sweep's comparison files).
+const PlanningAid = "Spanwright is a planning aid. Its output is not a construction document and does not replace the judgement of licensed professionals, the local codes in force or the authority having jurisdiction, which always prevail."
+
 // CautionsPreamble and CautionsClosing are said before and after the cautions, whatever the
 // plan, wherever they are shown.
 const (
-	CautionsPreamble = "Spanwright is a planning aid. Its output is not a construction document and does not replace the judgement of licensed professionals, the local codes in force or the authority having jurisdiction, which always prevail. The cautions below are those this plan's work calls for; the work may call for others."
+	CautionsPreamble = PlanningAid + " The cautions below are those this plan's work calls for; the work may call for others."
 	CautionsClosing  = "Codes are law where adopted; TIA documents are design standards; IEEE sets application limits. Defer to local codes, the authority having jurisdiction and licensed practice."
 )
 

@@ -365,11 +365,7 @@ const startNoteLinks = 10
 // hub starts from), the note that it was no start at all and why. noRoom of the unused were
 // placed afresh for a duct with no room (routing.Routed.StartNoRoom), which the note counts.
 func startNote(start *routing.Start, hub string, links []site.Link, unused []string, noRoom int) []string {
-	in := map[string]bool{}
-	for _, l := range start.Legs {
-		in[l.Link] = true
-	}
-	if !slices.ContainsFunc(links, func(l site.Link) bool { return in[l.ID] }) && len(links) > 0 {
+	if !keepsRoute(start, links) && len(links) > 0 {
 		// A link's ID starts with its cross-connect end (site.Link.ID): when none of the
 		// start's starts with one of this plan's, the start was planned from another hub.
 		sameEnd := slices.ContainsFunc(start.Legs, func(sl routing.StartLeg) bool {

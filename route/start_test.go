@@ -45,3 +45,48 @@ func TestStartFromAnotherPlan(t *testing.T) {
 		t.Errorf("notes %q: want %q", r.Notes, want)
 	}
 }
+
+// TestWarmStartWherePays: a sweep starts a scenario from its base's routes only where that
+// is worth it (route.WarmStart): not on the demo campus, small enough for the optimizer's full
+// search from scratch (second start, perturbation phase), whose plan from scratch does not
+// depend on which plan it started from; not from a start with a route for none of the plan's
+// links (a base from another hub), on any campus; and on a synthetic campus of 600
+// buildings, beyond the full search, from a start naming one of its links. Common practice,
+// no published source: alternatives are compared on equal search where it costs little.
+func TestWarmStartWherePays(t *testing.T) {
+	s, p := testsite.DemoFresh(t)
+	eng, err := plan.Engine(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, err := route.SolveWith(context.Background(), s, p, eng)
+	if err != nil {
+		t.Fatal(err)
+	}
+	own := &routing.Start{From: "base", Legs: []routing.StartLeg{{Link: r.Links[0].ID, Leg: routing.LegPrimary, Medium: "os2"}}}
+	if got := route.WarmStart(s, p, eng, own); got != nil {
+		t.Errorf("demo campus: warm start kept; want a plan from scratch")
+	}
+	big := testsite.Synth(t, 600)
+	bp := testsite.SynthPlan(big)
+	beng, err := plan.Engine(bp)
+	if err != nil {
+		t.Fatal(err)
+	}
+	hub, err := big.Hub(bp)
+	if err != nil {
+		t.Fatal(err)
+	}
+	links, _, errs := big.Links(bp, hub)
+	if len(errs) > 0 || len(links) == 0 {
+		t.Fatalf("synthetic links: %v", errs)
+	}
+	bigStart := &routing.Start{From: "base", Legs: []routing.StartLeg{{Link: links[0].ID, Leg: routing.LegPrimary, Medium: "os2"}}}
+	if got := route.WarmStart(big, bp, beng, bigStart); got != bigStart {
+		t.Errorf("600 buildings: warm start dropped; want it kept")
+	}
+	other := &routing.Start{From: "base", Legs: []routing.StartLeg{{Link: "ELSEWHERE-" + links[0].To, Leg: routing.LegPrimary, Medium: "os2"}}}
+	if got := route.WarmStart(big, bp, beng, other); got != nil {
+		t.Errorf("600 buildings, a start from another hub: kept; want a plan from scratch")
+	}
+}

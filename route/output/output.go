@@ -569,6 +569,23 @@ type Summary struct {
 	// .StartedFrom: `plan --start-from`, a sweep's base scenario); absent for a plan solved
 	// from scratch.
 	StartedFrom string `json:"started_from,omitempty"`
+	// Cautions are the safety cautions the plan's work calls for (route.Result.Cautions, the
+	// one list the report's safety section, bom.xlsx's safety sheet and the terminal's
+	// "safety:" line show): what each is and what in this plan calls for it; empty when none.
+	// PlanningAid is route.PlanningAid: the output is a planning aid, and the local codes and
+	// the authority having jurisdiction prevail.
+	Cautions    []SummaryCaution `json:"cautions"`
+	PlanningAid string           `json:"planning_aid"`
+}
+
+// SummaryCaution is one safety caution in summary.json: its id (route.Caution*), title, what
+// in this plan calls for it (lengths in metres), and its source. What to do is in the
+// report's safety section and bom.xlsx's safety sheet.
+type SummaryCaution struct {
+	ID     string `json:"id"`
+	Title  string `json:"title"`
+	Where  string `json:"where"`
+	Source string `json:"source"`
 }
 
 // HasBill reports whether the plan the summary describes has a bill of materials (then
@@ -642,7 +659,10 @@ func Summarize(r *route.Result) Summary {
 	s := Summary{Format: SummaryFormat, Scenario: r.Plan.Name, Hub: r.Hub, Buildings: len(r.Site.Campus.Buildings),
 		Links: len(r.Links), Legs: len(r.Legs), Warnings: append([]string{}, r.Warnings...), Notes: r.Notes,
 		MediaMix: map[string]int{}, Currency: r.Currency, NewTrenchM: round1(tot.NewM), CablesPerDuct: r.Plan.Design.CablesPerDuct,
-		StartedFrom: r.StartedFrom}
+		StartedFrom: r.StartedFrom, Cautions: []SummaryCaution{}, PlanningAid: route.PlanningAid}
+	for _, c := range r.Cautions {
+		s.Cautions = append(s.Cautions, SummaryCaution{ID: c.ID, Title: c.Title, Where: c.WhereIn(estimate.MetresText), Source: c.Source})
+	}
 	if DemoPrices(r) {
 		s.DemoPrices = DemoPricesWarning
 	}

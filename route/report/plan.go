@@ -262,6 +262,12 @@ type planView struct {
 	// prints it); Bound is "" without a bound.
 	Objective, Bound, Gap string
 	Warnings              []string
+	// Notes are the plan's notes (route.Result.Notes: a links entry dropped for the hub, a
+	// warm start's routes placed afresh), and StartedFrom the plan folder its search began
+	// from (route.Result.StartedFrom), "" for a plan from scratch: the owner's document says
+	// what the terminal and summary.json say (tester 12's finding 13).
+	Notes       []string
+	StartedFrom string
 	// Assumed lists the new trench priced on the design's assumed surface (AssumedSurface),
 	// each as its source and length (estimate.Construction.Assumed).
 	Assumed        []string
@@ -573,6 +579,10 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 	for _, w := range r.Warnings {
 		v.Warnings = append(v.Warnings, output.InUnits(output.WriteOptions{Units: opt.Units}, w))
 	}
+	for _, n := range r.Notes {
+		v.Notes = append(v.Notes, output.InUnits(output.WriteOptions{Units: opt.Units}, n))
+	}
+	v.StartedFrom = r.StartedFrom
 	if e := r.Estimate; e != nil {
 		v.AssumedSurface = e.Construction.AssumedSurface
 		for _, a := range e.Construction.Assumed {

@@ -534,3 +534,28 @@ func TestPlanCautionsFromResult(t *testing.T) {
 		}
 	}
 }
+
+// TestPlanNotes: the plan's notes (a links entry dropped for the hub, a warm start's links
+// placed afresh) and the folder its search started from are in the report, as on the terminal
+// and in summary.json (tester 12's finding 13: the owner's document did not say that a
+// requirement was dropped, nor that the search was a warm start's); a plan from scratch
+// without notes says so.
+func TestPlanNotes(t *testing.T) {
+	r := *result(t, demoPlan)
+	if html := render(t, demoPlan, Options{}); !strings.Contains(html, "<h2>Notes</h2>\n\n<p>None: planned from scratch") {
+		t.Error("a plan from scratch without notes: the report does not say so")
+	}
+	r.Notes = []string{"links[0] (to LIB) dropped: LIB is the hub of this plan"}
+	r.StartedFrom = "base-1"
+	b, err := Plan(context.Background(), &r, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	html := string(b)
+	for _, want := range []string{"<li>links[0] (to LIB) dropped: LIB is the hub of this plan</li>",
+		"search began from the routes of <b>base-1</b> (summary.json: started_from)"} {
+		if !strings.Contains(html, want) {
+			t.Errorf("report lacks %q", want)
+		}
+	}
+}

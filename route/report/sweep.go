@@ -7,6 +7,7 @@ import (
 	"math"
 	"sort"
 	"strconv"
+	"strings"
 
 	"spanwright/route/escape"
 	"spanwright/route/fileset"
@@ -94,6 +95,9 @@ type sweepView struct {
 	Plot             scatter
 	Cheapest         string
 	DemoPrices       int // scenarios priced by the invented demo price book
+	// Reports and Planned count the planned scenarios whose folder holds a report (a sweep
+	// run with --full) and all planned ones: the page says where the cautions are read.
+	Reports, Planned int
 }
 
 // Sweep renders a sweep's comparison as one self-contained HTML page: the table of every
@@ -140,8 +144,10 @@ func sweepViewOf(c *sweep.Comparison, opt SweepOptions) *sweepView {
 		sweepCol{"over budget", true}, sweepCol{"infeasible legs", true}, sweepCol{"worst margin (dB)", true},
 		sweepCol{"new trench (" + lu.Length + ")", true}, sweepCol{"diverse links", true}, sweepCol{"of them sharing a single point of failure", true}, sweepCol{"lacking diverse", true},
 		sweepCol{"media (legs)", false}, sweepCol{"rank by cost", true}, sweepCol{"Pareto", false},
-		sweepCol{"warnings", true}, sweepCol{"error", false})
-	var cheapest *sweep.Judged
+		sweepCol{"warnings", true}, sweepCol{"error", false},
+		sweepCol{"search started from", false}, sweepCol{"handholes to build", true}, sweepCol{"safety cautions", false})
+	var cheapest []string // the cheapest ok scenarios, every one of a tie (sweep.TiedText)
+	var cheapestCents int64
 	for i := range c.Rows {
 		j := &c.Rows[i]
 		switch j.Status {
@@ -150,8 +156,9 @@ func sweepViewOf(c *sweep.Comparison, opt SweepOptions) *sweepView {
 			if j.Incomplete() {
 				v.Incomplete++
 			}
-			if j.Rank == 1 && cheapest == nil && !j.RankedApart() {
-				cheapest = j
+			if j.Cheapest(j.Rank) {
+				cheapest = append(cheapest, fmt.Sprintf("#%d %s", j.Index, j.ID))
+				cheapestCents = j.TotalCents
 			}
 		case sweep.StatusInfeasible:
 			v.Infeasible++
@@ -167,14 +174,20 @@ func sweepViewOf(c *sweep.Comparison, opt SweepOptions) *sweepView {
 		if j.DemoPrices {
 			v.DemoPrices++
 		}
+		if j.Status != sweep.StatusFailed {
+			v.Planned++
+			if j.Report != "" {
+				v.Reports++
+			}
+		}
 		row := sweepRowOf(j, c.Keys, lu)
 		for i := range row.Cells {
 			row.Cells[i].Num = v.Cols[i].Num
 		}
 		v.Rows = append(v.Rows, row)
 	}
-	if cheapest != nil {
-		v.Cheapest = fmt.Sprintf("#%d %s at %s %s", cheapest.Index, cheapest.ID, money(cheapest.TotalCents), c.Currency)
+	if len(cheapest) > 0 {
+		v.Cheapest = fmt.Sprintf("%s at %s %s", sweep.TiedText(cheapest), money(cheapestCents), c.Currency)
 	}
 	v.Plot = scatterOf(c)
 	return v
@@ -239,6 +252,22 @@ func sweepRowOf(j *sweep.Judged, keys []string, lu output.Units) sweepRow {
 		over, intc(j.InfeasibleLegs, planned), margin, trench,
 		intc(j.DiverseLinks, planned), spof, intc(j.DiverseMissing, planned), text(j.MediaMix),
 		rankc(&j.Row, j.Rank), pareto, intc(j.Warnings, planned), text(j.Error))
+	hh, cautions := sweepCell{}, sweepCell{} // blank in rows written before they were kept
+	if j.HandholesToBuild != nil {
+		hh = intc(*j.HandholesToBuild, planned)
+	}
+	if planned && j.Cautions != nil {
+		c := "none"
+		if len(j.Cautions) > 0 {
+			c = strconv.Itoa(len(j.Cautions)) + ": " + strings.ToLower(strings.Join(j.Cautions, ", "))
+		}
+		cautions = text(c)
+	}
+	started := sweepCell{}
+	if planned {
+		started = text(j.StartedFrom)
+	}
+	row.Cells = append(row.Cells, started, hh, cautions)
 	return row
 }
 

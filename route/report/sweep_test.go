@@ -190,3 +190,44 @@ func TestSweepReportRanksUnserved(t *testing.T) {
 		}
 	}
 }
+
+// TestSweepReportTiesAndCautions: the headline names every cheapest ok scenario of a tie
+// (tester 12's finding 10); the table shows where each row's search began, its handholes to
+// build and its safety cautions; and the page's sentence on where the cautions are read is
+// true with and without --full (finding 2: without it, no report.html exists to link).
+func TestSweepReportTiesAndCautions(t *testing.T) {
+	rows := sweepRows()
+	rows[1].TotalCents = rows[0].TotalCents
+	hh := 4
+	rows[0].HandholesToBuild, rows[0].Cautions = &hh, []string{"Buried utilities", "Laser light"}
+	rows[1].StartedFrom = "cheap-1"
+	page := func(rows []sweep.Row) string {
+		b, err := Sweep(sweep.Judge(rows, []string{"hub"}), SweepOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		return string(b)
+	}
+	html := page(rows)
+	for _, want := range []string{
+		"cheapest ok: #0 cheap-1 and #1 safe-2 (tied: 2 scenarios at the same total) at 100,000.00 USD",
+		`<td data-v="2: buried utilities, laser light">2: buried utilities, laser light</td>`,
+		`<td data-v="cheap-1">cheap-1</td>`,
+		"this sweep wrote no report.html: run it with --full",
+	} {
+		if !strings.Contains(html, want) {
+			t.Errorf("sweep report lacks %q", want)
+		}
+	}
+	if strings.Contains(html, "linked from its id) says") {
+		t.Error("without --full the page says each id links to a report")
+	}
+	for i := range rows {
+		if rows[i].Status != sweep.StatusFailed {
+			rows[i].Report = "report.html"
+		}
+	}
+	if html := page(rows); !strings.Contains(html, "each scenario's own report (linked from its id) says what calls for each and what to do") {
+		t.Error("with --full the page does not point to each scenario's report")
+	}
+}

@@ -12,6 +12,8 @@ import (
 	"strconv"
 	"strings"
 
+	"spanwright/media"
+	"spanwright/route"
 	"spanwright/route/escape"
 	"spanwright/route/fileset"
 	"spanwright/route/output"
@@ -329,6 +331,70 @@ var fixedColumns = []column{
 			}
 			return output.PctText(*j.GapPct)
 		}},
+	// Where the search began, then what the total is made of, after the columns of earlier
+	// versions: the base scenario a warm-started row's search began from (blank: planned
+	// from scratch, as `spanwright plan` plans it alone), the handholes the plan adds (new
+	// digging, with or without new trench), and the bill's subtotals by category and its
+	// markups, as summary.json has them, which add up to total_cost.
+	textCol("started_from", "search started from", func(j judged) string {
+		if !planned(j) {
+			return ""
+		}
+		return j.StartedFrom
+	}),
+	{"handholes_to_build", "handholes to build", "",
+		func(j judged) string {
+			if !planned(j) || j.HandholesToBuild == nil {
+				return ""
+			}
+			return strconv.Itoa(*j.HandholesToBuild)
+		},
+		func(j judged) workbook.Cell {
+			if !planned(j) || j.HandholesToBuild == nil {
+				return workbook.Blank()
+			}
+			return workbook.Int(int64(*j.HandholesToBuild))
+		}, nil},
+	categoryCol(media.CategoryMaterial),
+	categoryCol(media.CategoryLabour),
+	categoryCol(media.CategoryConstruction),
+	categoryCol(media.CategoryOptics),
+	categoryCol(media.CategoryBidItems),
+	moneyCol("contingency", "contingency", func(r *Row) int64 { return r.ContingencyCents }, billed),
+	moneyCol("overhead", "overhead", func(r *Row) int64 { return r.OverheadCents }, billed),
+	moneyCol("tax", "tax", func(r *Row) int64 { return r.TaxCents }, billed),
+	// The safety cautions the scenario's work calls for, and that the figures are a planning
+	// aid, on every row: a comparison is read without the scenarios' reports (tester 12's
+	// finding 2).
+	textCol("safety", "safety", safetyText),
+}
+
+// safetyText is a row's safety cell: its cautions' titles and that local codes and the
+// authority having jurisdiction prevail (route.PlanningAid, said in full above compare.md's
+// table and in compare.xlsx's totals sheet); "" for a failed row and one of a rows file
+// written before the cautions were kept.
+func safetyText(j judged) string {
+	if !planned(j) || j.Cautions == nil {
+		return ""
+	}
+	what := "no safety caution"
+	if len(j.Cautions) > 0 {
+		what = output.Counted(len(j.Cautions), "safety caution", "safety cautions") + " (" + strings.ToLower(strings.Join(j.Cautions, ", ")) + "; the scenario's report.html or summary.json says what calls for each)"
+	}
+	return what + "; " + safetyRider
+}
+
+// safetyRider ends every row's safety cell: route.PlanningAid in short.
+const safetyRider = "a planning aid, not a construction document: local codes, licensed professionals and the authority having jurisdiction prevail"
+
+// billed reports whether the row is planned with a bill whose subtotals it keeps.
+func billed(j judged) bool { return planned(j) && len(j.CostByCategory) > 0 }
+
+// categoryCol is the bill's subtotal of one category (media.Categories, media.CategoryBidItems)
+// as compare.csv's cost_<category> (spaces as underscores), 0 where the bill has no line of
+// it, blank without a bill.
+func categoryCol(cat string) column {
+	return moneyCol("cost_"+strings.ReplaceAll(cat, " ", "_"), cat, func(r *Row) int64 { return r.CostByCategory[cat] }, billed)
 }
 
 // trenchColumn is the metres of new trench; columnsIn replaces it by its units' (trenchIn).
@@ -526,6 +592,8 @@ func compareXLSX(js []judged, keys []string, cur string, fixed []column) ([]byte
 		costAtRank("IFERROR(INDEX("+cost+",MATCH(1,"+rank+",0)),\"\")", 1))
 	tot.Append(workbook.Text("highest total cost of a ranked scenario"+unitSuffix(cur)),
 		costAtRank("IFERROR(INDEX("+cost+",MATCH(MAX("+rank+"),"+rank+",0)),\"\")", maxRank))
+	// Said with the figures, as in compare.md and every row's safety cell.
+	tot.Append(workbook.Text("planning aid"), workbook.Text(route.PlanningAid))
 	return wb.Bytes()
 }
 
@@ -617,6 +685,7 @@ func compareMD(js []judged, keys []string, cur string, fixed []column) []byte {
 	}
 	n := tallyOf(js)
 	fmt.Fprintf(&b, "# Sweep comparison\n\n")
+	fmt.Fprintf(&b, "%s Each scenario's safety cautions are listed below the table.\n\n", route.PlanningAid)
 	fmt.Fprintf(&b, "%s: %d ok, %d with infeasible legs, %d failed.", output.Counted(len(js), "scenario", "scenarios"), n.ok, n.infeasible, n.failed)
 	if cur != "" {
 		fmt.Fprintf(&b, " Money in %s.", escape.Markdown(cur))
@@ -644,6 +713,9 @@ func compareMD(js []judged, keys []string, cur string, fixed []column) []byte {
 	for _, k := range exclusions {
 		fmt.Fprintf(&b, "Pareto optimal among scenarios without %s: %s.\n\n", escape.Markdown(apart[k]), strings.Join(without[k], ", "))
 	}
+	if c := cheapestMD(js); c != "" {
+		fmt.Fprintf(&b, "Cheapest ok scenario: %s.\n\n", c)
+	}
 	gapMD(&b, js)
 	head := []string{"#", "id", "case"}
 	for _, k := range keys {
@@ -655,8 +727,8 @@ func compareMD(js []judged, keys []string, cur string, fixed []column) []byte {
 	}
 	var cols []column
 	for _, c := range fixed {
-		if c.csv == "error" || c.csv == "currency" || c.csv == "note" {
-			continue // failures and notes are listed below the table; the currency is said above
+		if c.csv == "error" || c.csv == "currency" || c.csv == "note" || c.csv == "safety" {
+			continue // failures, notes and cautions are listed below the table; the currency is said above
 		}
 		cols = append(cols, c)
 		h := c.human
@@ -690,6 +762,7 @@ func compareMD(js []judged, keys []string, cur string, fixed []column) []byte {
 			}
 		}
 	}
+	safetyMD(&b, js)
 	if n.failed > 0 {
 		fmt.Fprintf(&b, "\n## Failed scenarios\n\n")
 		for _, j := range js {
@@ -767,8 +840,8 @@ func unservedMD(b *bytes.Buffer, js []judged, n tally) {
 }
 
 // gapMD says, below the Pareto lines, how far the comparison's totals are proved: each row's
-// gap to its lower bound, and that a warm-started scenario is searched with fewer moves than
-// a plan from scratch, so two totals closer than their gaps may trade places under a better
+// gap to its lower bound, and which rows were warm-started (started_from), searched with fewer
+// moves than a plan from scratch, or that none was, so two totals closer than their gaps may trade places under a better
 // search (tester 10's finding 10).
 func gapMD(b *bytes.Buffer, js []judged) {
 	lo, hi := math.Inf(1), math.Inf(-1)
@@ -785,8 +858,78 @@ func gapMD(b *bytes.Buffer, js []judged) {
 		span = output.PctText(lo) + " to " + output.PctText(hi) + " %"
 	}
 	fmt.Fprintf(b, "How far the totals are proved: no plan of a row's legs costs less than its proved lower bound, and a row's gap to the bound (here %s) is how far above it the plan found is, in the optimizer's objective: a better plan of the same legs could save at most that share. ", span)
-	b.WriteString("A scenario started from the base scenario's routes (its note says \"started from the routes of …\") is searched with fewer moves than `spanwright plan` searches a plan from scratch (no second start, no perturbation phase: README, \"Warm start\"), even where every link was placed afresh, so it may come out cheaper or dearer than the plan made alone, within that gap. ")
+	if slices.ContainsFunc(js, func(j judged) bool { return planned(j) && j.StartedFrom != "" }) {
+		b.WriteString("A row whose \"search started from\" names a base scenario began its search from that scenario's routes, searched with fewer moves than `spanwright plan` searches a plan from scratch (no second start, no perturbation phase: README, \"Warm start\"), so it may come out cheaper or dearer than the plan made alone, within that gap; a sweep starts a scenario so only on a campus too large for that search, and a row with the column blank is planned from scratch, as `spanwright plan` plans it alone. ")
+	} else {
+		b.WriteString("Every row is planned from scratch, as `spanwright plan` plans it alone (\"search started from\" is blank): none depends on which scenario is the base. ")
+	}
 	b.WriteString("Two totals that differ by less than their gaps are not proved to differ by the alternatives alone: a better search could put them in the other order.\n\n")
+}
+
+// safetyMD lists, below compare.md's table, the safety cautions each planned scenario's work
+// calls for (Row.Cautions), scenarios with the same cautions on one line, in index order of
+// their first; what calls for each is in the scenario's summary.json (cautions) and report.
+func safetyMD(b *bytes.Buffer, js []judged) {
+	var sets []string
+	ids := map[string][]string{}
+	for _, j := range js {
+		if !planned(j) || j.Cautions == nil {
+			continue
+		}
+		k := strings.Join(j.Cautions, "\x00")
+		if _, seen := ids[k]; !seen {
+			sets = append(sets, k)
+		}
+		ids[k] = append(ids[k], escape.MarkdownCode(j.ID))
+	}
+	if len(sets) == 0 {
+		return
+	}
+	fmt.Fprintf(b, "\n## Safety cautions\n\n")
+	for _, k := range sets {
+		what := "no safety caution"
+		if k != "" {
+			titles := strings.Split(k, "\x00")
+			what = output.Counted(len(titles), "caution", "cautions") + ": " + escape.Markdown(strings.ToLower(strings.Join(titles, ", ")))
+		}
+		fmt.Fprintf(b, "- %s: %s\n", strings.Join(ids[k], ", "), what)
+	}
+	fmt.Fprintf(b, "\nWhat in each plan calls for a caution is in its folder's summary.json (cautions); what to do, in its report.html (Safety, written with --full). %s\n", escape.Markdown(route.CautionsClosing))
+}
+
+// cheapestMD names compare.md's cheapest ok scenarios pricing every line (Row.Cheapest),
+// every one when several tie (TiedText), with their total; "" when none is ranked so.
+func cheapestMD(js []judged) string {
+	var names []string
+	var cents int64
+	for _, j := range js {
+		if j.Cheapest(j.rank) {
+			names = append(names, "#"+strconv.Itoa(j.Index)+" "+escape.MarkdownCode(j.ID))
+			cents = j.TotalCents
+		}
+	}
+	if len(names) == 0 {
+		return ""
+	}
+	return TiedText(names) + " at " + money(cents)
+}
+
+// Cheapest reports whether a row of cost rank rank is among the sweep's cheapest: rank 1
+// among the ok scenarios that price every line. Several rows of one total all are.
+func (r *Row) Cheapest(rank int) bool { return rank == 1 && !r.RankedApart() }
+
+// TiedText names the scenarios of one rank together: "a", "a and b", "a, b and c", and for
+// more than one "(tied: N scenarios at the same total)" after them, so that a headline never
+// names one of several equal rows as the answer (tester 12's finding 10).
+func TiedText(names []string) string {
+	switch len(names) {
+	case 0:
+		return ""
+	case 1:
+		return names[0]
+	}
+	return strings.Join(names[:len(names)-1], ", ") + " and " + names[len(names)-1] +
+		fmt.Sprintf(" (tied: %d scenarios at the same total)", len(names))
 }
 
 // mdRow writes one table row of cells already in Markdown (see escape.Markdown).

@@ -5,9 +5,12 @@ import (
 	"encoding/csv"
 	"math"
 	"math/rand/v2"
+	"slices"
+	"strconv"
 	"strings"
 	"testing"
 
+	"spanwright/route"
 	"spanwright/route/workbook"
 )
 
@@ -145,8 +148,9 @@ func TestCompareMarkdown(t *testing.T) {
 	// The optimizer's objective, bound and gap come last (objective, lower_bound, gap_pct):
 	// the gap in percent, as summary.json has it in compare.csv (four decimals) and as the
 	// terminal prints it in compare.md (output.PctText).
-	if !strings.Contains(csvText, ",objective,lower_bound,gap_pct\n") ||
-		!strings.Contains(csvText, "0,a-1,,A|B,ok,EUR,1.50,1.00,0.50,0,1.23,0.0,2,1,0,os2:2,1,yes,0,,,1.20,1.00,4.4158\n") {
+	if !strings.Contains(csvText, ",objective,lower_bound,gap_pct,") ||
+		!strings.Contains(csvText, "0,a-1,,A|B,ok,EUR,1.50,1.00,0.50,0,1.23,0.0,2,1,0,os2:2,1,yes,0,,,1.20,1.00,4.4158,"+
+			",,,,,,,,,,\n") { // a row without a start, a handhole count, subtotals or cautions (as an earlier rows file's)
 		t.Errorf("compare.csv:\n%s", csvText)
 	}
 	if !strings.Contains(md, "| optimizer objective (EUR) | proved lower bound (EUR) | gap to the bound (%) |") ||
@@ -219,7 +223,7 @@ func TestComparePayloads(t *testing.T) {
 			if rec[1] != p.csv || rec[2] != p.csv || rec[3] != p.csv {
 				t.Errorf("%s: compare.csv id, case, hub: got %q, want %q each", p.name, rec[1:4], p.csv)
 			}
-			if got := rec[len(rec)-14]; got != "-1.50" {
+			if got := rec[slices.Index(recs[0], "worst_margin_db")]; got != "-1.50" {
 				t.Errorf("%s: compare.csv worst margin: got %q, want the number -1.50", p.name, got)
 			}
 			line := table[i+2]
@@ -249,6 +253,80 @@ func TestComparePayloads(t *testing.T) {
 			if v != p.xlsx || f != "" {
 				t.Errorf("%s: compare.xlsx %s: got %q formula %q, want the text %q", p.name, ref, v, f, p.xlsx)
 			}
+		}
+	}
+}
+
+// TestCompareTiesSubtotalsSafety: two ok rows of one total are both the cheapest, named
+// together in compare.md (tester 12's finding 10); every row carries where its search began
+// (started_from: tester 12's finding 8), its handholes to build, the bill's subtotals by
+// category and markups as summary.json has them, adding up to the total, and its safety
+// cautions with the planning-aid line (finding 2: ANSI/TIA-568 and NFPA 70 are the designer's,
+// the authority having jurisdiction decides); compare.md says the planning-aid line above
+// its table and lists the cautions below it.
+func TestCompareTiesSubtotalsSafety(t *testing.T) {
+	t.Parallel()
+	hh := func(n int) *int { return &n }
+	cats := map[string]int64{"material": 40000, "labour": 30000, "construction": 20000, "optics": 5000, "bid items": 1000}
+	rows := []Row{
+		{Index: 0, ID: "adm-1g", Status: StatusOK, Currency: "USD", TotalCents: 100000, MediaMix: "os2:2",
+			HandholesToBuild: hh(3), CostByCategory: cats, ContingencyCents: 2000, OverheadCents: 1500, TaxCents: 500,
+			Cautions: []string{"Buried utilities", "Laser light"}},
+		{Index: 1, ID: "lib-1g", Status: StatusOK, Currency: "USD", TotalCents: 110000, MediaMix: "os2:2", StartedFrom: "adm-1g",
+			HandholesToBuild: hh(0), CostByCategory: cats, ContingencyCents: 12000, OverheadCents: 1500, TaxCents: 500,
+			Cautions: []string{}},
+		{Index: 2, ID: "adm-1g-100g", Status: StatusOK, Currency: "USD", TotalCents: 100000, MediaMix: "os2:2",
+			HandholesToBuild: hh(3), CostByCategory: cats, ContingencyCents: 2000, OverheadCents: 1500, TaxCents: 500,
+			Cautions: []string{"Buried utilities", "Laser light"}},
+	}
+	files, err := Compare(rows, nil, "")
+	if err != nil {
+		t.Fatal(err)
+	}
+	data := map[string]string{}
+	for _, f := range files {
+		data[f.Name] = string(f.Data)
+	}
+	recs, err := csv.NewReader(strings.NewReader(data[CompareCSV])).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	col := func(r int, name string) string { return recs[r+1][slices.Index(recs[0], name)] }
+	for r, row := range rows {
+		sum := int64(0)
+		for _, c := range []string{"cost_material", "cost_labour", "cost_construction", "cost_optics", "cost_bid_items", "contingency", "overhead", "tax"} {
+			v, err := strconv.ParseFloat(col(r, c), 64)
+			if err != nil {
+				t.Fatalf("row %d: %s %q: %v", r, c, col(r, c), err)
+			}
+			sum += int64(math.Round(v * 100))
+		}
+		if sum != row.TotalCents {
+			t.Errorf("row %d: subtotals and markups add up to %d cents, total %d", r, sum, row.TotalCents)
+		}
+		if col(r, "started_from") != row.StartedFrom || col(r, "handholes_to_build") != strconv.Itoa(*row.HandholesToBuild) {
+			t.Errorf("row %d: started_from %q, handholes_to_build %q", r, col(r, "started_from"), col(r, "handholes_to_build"))
+		}
+		if !strings.HasSuffix(col(r, "safety"), "; "+safetyRider) || !strings.Contains(safetyRider, "authority having jurisdiction") {
+			t.Errorf("row %d: safety %q lacks the planning-aid line", r, col(r, "safety"))
+		}
+	}
+	if got := col(0, "safety"); !strings.HasPrefix(got, "2 safety cautions (buried utilities, laser light;") {
+		t.Errorf("row 0: safety %q", got)
+	}
+	if got := col(1, "safety"); !strings.HasPrefix(got, "no safety caution;") {
+		t.Errorf("row 1: safety %q", got)
+	}
+	md := data[CompareMD]
+	for _, want := range []string{
+		route.PlanningAid,
+		"Cheapest ok scenario: #0 `adm-1g` and #2 `adm-1g-100g` (tied: 2 scenarios at the same total) at 1000.00.",
+		"| search started from | handholes to build | material (USD) |",
+		"- `adm-1g`, `adm-1g-100g`: 2 cautions: buried utilities, laser light",
+		"- `lib-1g`: no safety caution",
+	} {
+		if !strings.Contains(md, want) {
+			t.Errorf("compare.md lacks %q:\n%s", want, md)
 		}
 	}
 }

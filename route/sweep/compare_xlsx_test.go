@@ -7,6 +7,7 @@ import (
 	"strings"
 	"testing"
 
+	"spanwright/route"
 	"spanwright/route/internal/testplan"
 )
 
@@ -18,7 +19,8 @@ import (
 // counts and costs of the rows, worked out here: 3 scenarios, 1 ok, 1 with infeasible legs,
 // 1 failed, 1 Pareto optimal, lowest and highest cost of an ok scenario 1234.56: the
 // infeasible one, cheaper and ranked 1 among those leaving its leg unserved (tester 10's
-// finding 5), is ranked in a text cell the formulas pass over.
+// finding 5), is ranked in a text cell the formulas pass over; and the planning-aid line
+// (tester 12's finding 2) after them.
 func TestCompareWorkbookOpenpyxl(t *testing.T) {
 	t.Parallel()
 	py := testplan.Openpyxl(t)
@@ -66,6 +68,7 @@ failed = int:1
 pareto optimal = int:1
 lowest total cost of a ranked scenario (USD) = float:1234.56
 highest total cost of a ranked scenario (USD) = float:1234.56
+planning aid = str:` + "'" + route.PlanningAid + "'" + `
 `
 	if string(out) != want {
 		t.Errorf("openpyxl read:\n%s\nwant:\n%s", out, want)

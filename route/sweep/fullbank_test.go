@@ -11,7 +11,8 @@ import (
 	"spanwright/route/output"
 )
 
-// TestWarmFullBank: every link of the fan campus crosses duct T, whose one 100 mm bank has no
+// TestWarmFullBank (warmAlways: by default a campus this small is planned from scratch):
+// every link of the fan campus crosses duct T, whose one 100 mm bank has no
 // spare duct. The base scenario may build new trench and lays added duct beside T for the
 // links; the "no new trench" scenario started warm from it keeps none of those routes (a
 // duct with no room: T has no spare duct and the scenario may add none), so its legs are as
@@ -36,7 +37,7 @@ func TestWarmFullBank(t *testing.T) {
 		t.Fatal(err)
 	}
 	opt := func(out string, jobs int, cold bool) Options {
-		return Options{Out: filepath.Join(dir, out), Jobs: jobs, Cold: cold, Write: output.WriteOptions{SkipWorkbook: true, SkipGeoPackage: true}}
+		return Options{Out: filepath.Join(dir, out), Jobs: jobs, Cold: cold, warmAlways: !cold, Write: output.WriteOptions{SkipWorkbook: true, SkipGeoPackage: true}}
 	}
 	run(t, f, opt("warm", 2, false))
 	run(t, f, opt("warm1", 1, false))

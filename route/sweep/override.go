@@ -313,3 +313,55 @@ func deleteKey(m *yaml.Node, key string) {
 		}
 	}
 }
+
+// carryHubLink turns, in a scenario's plan root whose hub is not the base plan's (baseRoot),
+// a links entry for the scenario's hub (to: the hub, from: none or the hub) into the same
+// entry the other way: to the base plan's hub, from the scenario's, with every other setting
+// kept (redundancy, rate, strands, growth, future rate). Without it the entry would be dropped
+// (the hub has no link of its own: site.Site.Links), and an alternative with the other hub
+// would be priced without what the base pays for, such as the diverse route between the two
+// buildings, and would read as lacking none (tester 12's finding 13): the entry is about the
+// link between the two buildings, which the scenario still has, served the other way. It
+// returns the note saying so, "" when nothing was carried: the hubs are the same, no entry is
+// for the scenario's hub, or an entry is already for the base's hub (then site.Site.Links
+// drops the one for the scenario's hub, and says so).
+func carryHubLink(root, baseRoot *yaml.Node) string {
+	hubOf := func(m *yaml.Node) string {
+		if v := lookup(m, "hub"); v != nil && v.Kind == yaml.ScalarNode && v.Tag != "!!null" {
+			return v.Value
+		}
+		return ""
+	}
+	hub, base := hubOf(root), hubOf(baseRoot)
+	links := lookup(root, "links")
+	if hub == "" || base == "" || hub == base || links == nil || links.Kind != yaml.SequenceNode {
+		return ""
+	}
+	str := func(m *yaml.Node, key string) string {
+		if v := lookup(m, key); v != nil && v.Kind == yaml.ScalarNode && v.Tag != "!!null" {
+			return v.Value
+		}
+		return ""
+	}
+	at := -1
+	for i, e := range links.Content {
+		if e.Kind != yaml.MappingNode {
+			return "" // the plan's own validation reports it
+		}
+		to, from := str(e, "to"), str(e, "from")
+		switch {
+		case to == base && (from == "" || from == hub):
+			return "" // the base's hub has an entry of its own for this link
+		case to == hub && (from == "" || from == hub) && str(e, "skip") != "true" && at < 0:
+			at = i // a skip stays dropped: the other way the hub serves the base's hub all the same
+		}
+	}
+	if at < 0 {
+		return ""
+	}
+	e := links.Content[at]
+	setKey(e, "to", &yaml.Node{Kind: yaml.ScalarNode, Tag: "!!str", Value: base})
+	setKey(e, "from", &yaml.Node{Kind: yaml.ScalarNode, Tag: "!!str", Value: hub})
+	e.LineComment = "carried by the sweep from {to: " + hub + "}: " + hub + " is this scenario's hub, " + base + " the base plan's"
+	return fmt.Sprintf("links[%d] (to %s) carried to the link %s-%s, the other way: %s is this scenario's hub and %s the base plan's, so the link between them keeps the entry's settings (its redundancy among them)", at, hub, hub, base, hub, base)
+}

@@ -8,6 +8,7 @@ import (
 	"encoding/json"
 	"fmt"
 	"io"
+	"maps"
 	"os"
 	"path/filepath"
 	"slices"
@@ -76,6 +77,25 @@ type Row struct {
 	ObjectiveCents  int64    `json:"objective_cents"`
 	LowerBoundCents *int64   `json:"lower_bound_cents"`
 	GapPct          *float64 `json:"gap_pct"`
+	// StartedFrom is the base scenario whose routes the optimizer's search began from
+	// (output.Summary.StartedFrom); "" for a scenario planned from scratch, as `spanwright
+	// plan` plans it alone.
+	StartedFrom string `json:"started_from,omitempty"`
+	// HandholesToBuild is every handhole the plan adds (output.Summary.HandholesToBuild); nil
+	// (absent) in a rows file written before it was kept.
+	HandholesToBuild *int `json:"handholes_to_build,omitempty"`
+	// CostByCategory, ContingencyCents, OverheadCents and TaxCents are the bill's subtotals by
+	// category and its markups (output.Summary's of the same names), which add up to
+	// TotalCents; CostByCategory is nil (absent) for a plan without a bill and in a rows file
+	// written before they were kept.
+	CostByCategory   map[string]int64 `json:"cost_by_category_cents,omitempty"`
+	ContingencyCents int64            `json:"contingency_cents,omitempty"`
+	OverheadCents    int64            `json:"overhead_cents,omitempty"`
+	TaxCents         int64            `json:"tax_cents,omitempty"`
+	// Cautions are the titles of the safety cautions the scenario's work calls for
+	// (output.Summary.Cautions), empty when none; nil (absent or null) for a failed scenario
+	// and in a rows file written before they were kept.
+	Cautions []string `json:"cautions"`
 }
 
 func newRow(sc Scenario) Row {
@@ -111,10 +131,35 @@ func (r *Row) fill(s output.Summary) {
 	}
 	r.DemoPrices = s.DemoPrices != ""
 	r.ObjectiveCents, r.LowerBoundCents, r.GapPct = s.ObjectiveCents, s.LowerBoundCents, s.GapPct
+	r.StartedFrom = s.StartedFrom
+	if s.Cautions != nil { // nil: a summary.json written before they were kept (--resume)
+		r.Cautions = make([]string, len(s.Cautions))
+		for i, c := range s.Cautions {
+			r.Cautions[i] = c.Title
+		}
+	}
+	hh := s.HandholesToBuild
+	r.HandholesToBuild = &hh
+	if s.HasBill() {
+		r.CostByCategory = maps.Clone(s.CostByCategory)
+		r.ContingencyCents, r.OverheadCents, r.TaxCents = s.ContingencyCents, s.OverheadCents, s.TaxCents
+	}
 	r.Status = StatusOK
 	if s.Infeasible > 0 {
 		r.Status = StatusInfeasible
 	}
+}
+
+// addNote puts what the sweep changed in the scenario's plan beyond its overrides
+// (carryHubLink's note) before the plan's own notes; nothing when note is "".
+func (r *Row) addNote(note string) {
+	if note == "" {
+		return
+	}
+	if r.Note != "" {
+		note += "; " + r.Note
+	}
+	r.Note = note
 }
 
 // Apart is what sets a row's total apart from the complete totals of scenarios serving every

@@ -90,12 +90,17 @@ type Options struct {
 	CampusDatabase string
 	// Cold plans every scenario from scratch, as `spanwright plan` plans its plan alone. By
 	// default a scenario on the base scenario's network (the same campus files and noding)
-	// starts its search from the base scenario's routes (see Run).
+	// starts its search from the base scenario's routes where route.WarmStart finds that worth
+	// it (see Run), and is planned from scratch elsewhere.
 	Cold bool
 	// Preflight checks the inputs of every scenario of the sweep before anything is planned
 	// or written, and stops the sweep with every problem at once (see preflight) instead of
 	// failing the scenarios one by one as they are planned.
 	Preflight bool
+	// warmAlways, for the tests of the warm start's machinery on campuses small enough to be
+	// planned from scratch, starts every scenario on the base's site from the base's routes,
+	// without asking route.WarmStart whether the start is worth it.
+	warmAlways bool
 }
 
 // Progress is the state of a running sweep.
@@ -192,11 +197,15 @@ func Check(ctx context.Context, f *File, opt Options) error {
 // whatever opt.Jobs is.
 //
 // Warm start: unless opt.Cold, the base scenario (the first in sweep order) is planned first,
-// from scratch, and every other scenario on its network begins the optimizer's search from
-// its routes, read back from its routes.geojson as `spanwright plan --start-from` reads them
-// (so that command reproduces the scenario alone); the scenario's summary names the base
-// (started_from) and its inputs.sha256 lists the base's routes.geojson. A shard without the
-// base plans it too, without writing it, so every shard starts from the same routes.
+// from scratch, and every other scenario on its network for which route.WarmStart finds it
+// worth it (a routing problem beyond the optimizer's full search from scratch, and a route of
+// the base for one of its links: the same hub) begins the optimizer's search from its
+// routes; the others are planned from scratch, as `spanwright plan` plans them alone. The
+// base's routes are read back from its routes.geojson as `spanwright plan --start-from`
+// reads them (so that command reproduces a warm-started scenario alone); such a scenario's
+// summary names the base (started_from) and its inputs.sha256 lists the base's
+// routes.geojson. A shard without the base plans it too, without writing it, so every shard
+// starts from the same routes.
 func Run(ctx context.Context, f *File, opt Options) (*Report, error) {
 	r, err := newRunner(f, opt)
 	if err != nil {
@@ -588,7 +597,7 @@ func (r *runner) scenario(ctx context.Context, sc Scenario, resume bool) (outcom
 	}
 	dir := filepath.Join(r.out, sc.ID)
 	planPath := filepath.Join(dir, PlanFile)
-	planData, err := r.planYAML(sc)
+	planData, carried, err := r.planYAMLNote(sc)
 	if err != nil {
 		return out, err
 	}
@@ -620,6 +629,7 @@ func (r *runner) scenario(ctx context.Context, sc Scenario, resume bool) (outcom
 	if resume && p.CampusDatabase == "" {
 		if s, ok := r.resumable(sc, dir, inputs); ok {
 			out.row.fill(s)
+			out.row.addNote(carried)
 			out.row.Report = htmlIn(dir)
 			out.skipped = true
 			return out, nil
@@ -633,7 +643,7 @@ func (r *runner) scenario(ctx context.Context, sc Scenario, resume bool) (outcom
 	if err != nil {
 		return fail(err)
 	}
-	res, err := route.SolveFrom(ctx, site, p, eng, r.startOf(sc, p))
+	res, err := route.SolveFrom(ctx, site, p, eng, start)
 	if err != nil {
 		if ctx.Err() != nil {
 			return out, ctx.Err()
@@ -651,6 +661,7 @@ func (r *runner) scenario(ctx context.Context, sc Scenario, resume bool) (outcom
 			return fail(err)
 		}
 		out.row.fill(output.Summarize(res))
+		out.row.addNote(carried)
 		out.files = files
 		return out, nil
 	}
@@ -694,6 +705,7 @@ func (r *runner) scenario(ctx context.Context, sc Scenario, resume bool) (outcom
 		seen[o.Name] = true
 	}
 	out.row.fill(output.Summarize(res))
+	out.row.addNote(carried)
 	for _, o := range files {
 		if strings.HasSuffix(o.Name, ".html") && out.row.Report == "" {
 			out.row.Report = o.Name
@@ -720,10 +732,18 @@ func routesOnly(ctx context.Context, res *route.Result, opt output.WriteOptions)
 // planYAML renders the scenario's plan: the base plan with file names made relative to the
 // scenario folder and the overrides applied, headed by a comment naming the scenario.
 func (r *runner) planYAML(sc Scenario) ([]byte, error) {
+	data, _, err := r.planYAMLNote(sc)
+	return data, err
+}
+
+// planYAMLNote is planYAML with the note on what the sweep changed in the plan beyond the
+// overrides (carryHubLink), "" when nothing.
+func (r *runner) planYAMLNote(sc Scenario) ([]byte, string, error) {
 	doc := cloneNode(r.f.baseDoc)
 	root := doc.Content[0]
 	rebasePlanPaths(root, r.rebaseBase)
 	apply(root, sc.Set, r.rebaseSweep)
+	note := carryHubLink(root, r.f.baseDoc.Content[0])
 	head := "scenario " + sc.ID + ": " + escape.Visible(sc.Describe()) // YAML comments allow no control characters
 	if b := builtIns(root); b != "" {
 		// Part of the plan's bytes, so a resumed sweep plans again when a new build changes
@@ -739,12 +759,12 @@ func (r *runner) planYAML(sc Scenario) ([]byte, error) {
 	enc := yaml.NewEncoder(&b)
 	enc.SetIndent(2)
 	if err := enc.Encode(doc); err != nil {
-		return nil, fmt.Errorf("scenario %s: %w", sc.ID, err)
+		return nil, "", fmt.Errorf("scenario %s: %w", sc.ID, err)
 	}
 	if err := enc.Close(); err != nil {
-		return nil, err
+		return nil, "", err
 	}
-	return b.Bytes(), nil
+	return b.Bytes(), note, nil
 }
 
 // builtIns names, with their SHA-256, the embedded files a plan reads because it names no

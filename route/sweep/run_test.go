@@ -231,19 +231,28 @@ func TestFailureRowAndOutcome(t *testing.T) {
 	}
 }
 
-// TestHubAxisDropsItsLink: a sweep over the hub makes, in turn, a building the hub that the
-// base plan gives a link entry of its own (the demo's LIB and TWR). That entry is dropped for
-// that scenario with a note in its row; the scenario is planned (issue 13: the README's sweep
-// example failed half its scenarios with "LIB is the hub").
-func TestHubAxisDropsItsLink(t *testing.T) {
+// TestHubAxisCarriesItsLink: a sweep over the hub makes, in turn, a building the hub that the
+// base plan gives a link entry of its own (the demo's LIB and TWR, both diverse). The
+// scenario is planned (issue 13: the README's sweep example failed half its scenarios with
+// "LIB is the hub"), and the entry is carried to the link between the two hubs the other way,
+// from the scenario's hub to the base's, with its settings (tester 12's finding 13: dropped,
+// the LIB alternative was priced without the diverse route the ADM one pays for, and read as
+// lacking none): its plan.yaml says so at the entry, its row's note too, and every scenario
+// asks for as many diverse links (diverse_links + diverse_missing) as the base. ANSI/TIA-568
+// names no hub; a diverse route between two buildings is one requirement whichever end is
+// the hub (common practice, no published source).
+func TestHubAxisCarriesItsLink(t *testing.T) {
 	t.Parallel()
 	dir := t.TempDir()
-	rep := run(t, parseInline(t, "vary: {hub: [ADM, LIB, TWR]}"), Options{Out: dir})
+	f := parseInline(t, "vary: {hub: [ADM, LIB, TWR]}")
+	rep := run(t, f, Options{Out: dir})
 	if err := rep.Err(); err != nil {
 		t.Fatalf("sweep over the hub: %v", err)
 	}
-	want := map[string]string{"ADM": "", "LIB": "links[0] (to LIB) dropped: LIB is the hub of this plan",
-		"TWR": "links[3] (to TWR) dropped: TWR is the hub of this plan"}
+	want := map[string]string{"ADM": "",
+		"LIB": "links[0] (to LIB) carried to the link LIB-ADM, the other way: LIB is this scenario's hub and ADM the base plan's, so the link between them keeps the entry's settings (its redundancy among them)",
+		"TWR": "links[3] (to TWR) carried to the link TWR-ADM, the other way: TWR is this scenario's hub and ADM the base plan's, so the link between them keeps the entry's settings (its redundancy among them)"}
+	entry := map[string]string{"LIB": "{to: ADM, rate: 40G, redundancy: diverse, from: LIB}", "TWR": "{to: ADM, rate: 40G, redundancy: diverse, from: TWR}"}
 	rows, err := os.ReadFile(filepath.Join(dir, CompareCSV))
 	if err != nil {
 		t.Fatal(err)
@@ -253,12 +262,24 @@ func TestHubAxisDropsItsLink(t *testing.T) {
 		t.Fatal(err)
 	}
 	hub, status, note := slices.Index(recs[0], "hub"), slices.Index(recs[0], "status"), slices.Index(recs[0], "note")
+	dl, dm := slices.Index(recs[0], "diverse_links"), slices.Index(recs[0], "diverse_missing")
 	if len(recs) != 4 || hub < 0 || status < 0 || note < 0 {
 		t.Fatalf("compare.csv: %q", recs)
 	}
-	for _, r := range recs[1:] {
+	asked := func(r []string) int { a, _ := strconv.Atoi(r[dl]); b, _ := strconv.Atoi(r[dm]); return a + b }
+	for i, r := range recs[1:] {
 		if r[status] != StatusOK || r[note] != want[r[hub]] {
 			t.Errorf("hub %s: status %q, note %q; want ok and %q", r[hub], r[status], r[note], want[r[hub]])
+		}
+		if asked(r) != asked(recs[1]) {
+			t.Errorf("hub %s: %d diverse links asked for, the base %d", r[hub], asked(r), asked(recs[1]))
+		}
+		plan, err := os.ReadFile(filepath.Join(dir, f.Scenarios()[i].ID, PlanFile))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if e := entry[r[hub]]; e != "" && !strings.Contains(string(plan), e+" # carried by the sweep from {to: "+r[hub]+"}") {
+			t.Errorf("hub %s: plan.yaml lacks %q:\n%s", r[hub], e, plan)
 		}
 	}
 }
@@ -695,5 +716,42 @@ func TestCablesPerDuctAxis(t *testing.T) {
 	}
 	if len(laid) != 2 || laid[0] != 0 || laid[3] <= 0 {
 		t.Errorf("summary.json count_laid_cents by cables_per_duct %v, want 0 for 0 and more for 3", laid)
+	}
+}
+
+// TestCarryHubLink: only an entry for the scenario's hub with no from (or from itself) is
+// carried the other way; a skip stays dropped, and an entry of the plan for the base's hub
+// already wins (site.Site.Links then drops the other, with its note); the same hub carries
+// nothing.
+func TestCarryHubLink(t *testing.T) {
+	t.Parallel()
+	cases := []struct {
+		name, base, scenario, want string
+	}{
+		{"carried", "hub: ADM\nlinks: [{to: LIB, redundancy: diverse}]", "hub: LIB\nlinks: [{to: LIB, redundancy: diverse}]",
+			"{to: ADM, redundancy: diverse, from: LIB}"},
+		{"same hub", "hub: ADM\nlinks: [{to: LIB, redundancy: diverse}]", "hub: ADM\nlinks: [{to: LIB, redundancy: diverse}]", ""},
+		{"skip stays dropped", "hub: ADM\nlinks: [{to: LIB, skip: true}]", "hub: LIB\nlinks: [{to: LIB, skip: true}]", ""},
+		{"the base's hub has its own", "hub: ADM\nlinks: [{to: LIB}, {to: ADM, rate: 1G}]", "hub: LIB\nlinks: [{to: LIB}, {to: ADM, rate: 1G}]", ""},
+		{"from another building stays", "hub: ADM\nlinks: [{to: LIB, from: ENG}]", "hub: LIB\nlinks: [{to: LIB, from: ENG}]", ""},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			var base, sc yaml.Node
+			if err := yaml.Unmarshal([]byte(tc.base), &base); err != nil {
+				t.Fatal(err)
+			}
+			if err := yaml.Unmarshal([]byte(tc.scenario), &sc); err != nil {
+				t.Fatal(err)
+			}
+			note := carryHubLink(sc.Content[0], base.Content[0])
+			out, err := yaml.Marshal(&sc)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if got := strings.Contains(string(out), tc.want) && (note != "") == (tc.want != ""); !got || (tc.want == "" && strings.Contains(string(out), "carried")) {
+				t.Errorf("%s: note %q, plan:\n%s\nwant %q", tc.name, note, out, tc.want)
+			}
+		})
 	}
 }

@@ -66,9 +66,11 @@ func TestJudgeRanksUnservedApart(t *testing.T) {
 					t.Errorf("compare.csv lacks %q:\n%s", want, text)
 				}
 			}
-			// Columns stay where they were: the header is unchanged.
+			// Columns stay where they were: the header of earlier versions, then the columns
+			// added after them.
 			head, _, _ := strings.Cut(text, "\n")
-			if head != "index,id,case,status,currency,total_cost,plan_budget,over_budget,infeasible_legs,worst_margin_db,new_trench_m,diverse_links,diverse_single_point,diverse_missing,media_mix,cost_rank,pareto,warnings,error,note,objective,lower_bound,gap_pct" {
+			if head != "index,id,case,status,currency,total_cost,plan_budget,over_budget,infeasible_legs,worst_margin_db,new_trench_m,diverse_links,diverse_single_point,diverse_missing,media_mix,cost_rank,pareto,warnings,error,note,objective,lower_bound,gap_pct"+
+				",started_from,handholes_to_build,cost_material,cost_labour,cost_construction,cost_optics,cost_bid_items,contingency,overhead,tax,safety" {
 				t.Errorf("compare.csv header changed: %s", head)
 			}
 		case CompareMD:
@@ -122,31 +124,43 @@ func TestRowKeepsUnserved(t *testing.T) {
 // TestCompareSaysGapIsTheNoise: compare.md says how far its totals are proved, with the
 // sweep's own gaps to the bound, and that a warm-started scenario's search differs from a
 // plan made alone (tester 10's finding 10: a LIBR-hub scenario "every link was placed afresh"
-// came out 2 % cheaper than the same plan from scratch, with gaps of 16-21 %).
+// came out 2 % cheaper than the same plan from scratch, with gaps of 16-21 %), naming the
+// column that tells which rows were (tester 12's finding 8: the rows that moved had no note);
+// without a warm-started row, that every row is planned as `spanwright plan` plans it alone.
 func TestCompareSaysGapIsTheNoise(t *testing.T) {
 	t.Parallel()
 	lb1, lb2 := int64(22121668), int64(29997784)
 	rows := []Row{
 		{Index: 0, ID: "cold", Status: StatusOK, TotalCents: 57401484, ObjectiveCents: 36126875, LowerBoundCents: &lb2, GapPct: fp(20.4318)},
 		{Index: 1, ID: "warm", Status: StatusOK, TotalCents: 41362127, ObjectiveCents: 25737840, LowerBoundCents: &lb1, GapPct: fp(16.3467),
-			Note: "started from the routes of cold"},
+			StartedFrom: "cold"},
 	}
-	files, err := Compare(rows, nil, "")
-	if err != nil {
-		t.Fatal(err)
-	}
-	for _, f := range files {
-		if f.Name != CompareMD {
-			continue
+	md := func() string {
+		files, err := Compare(rows, nil, "")
+		if err != nil {
+			t.Fatal(err)
 		}
-		for _, want := range []string{"gap to the bound (here 16.35 to 20.43 %)",
-			"is searched with fewer moves than `spanwright plan` searches a plan from scratch",
-			"even where every link was placed afresh, so it may come out cheaper or dearer than the plan made alone, within that gap",
-			"Two totals that differ by less than their gaps are not proved to differ by the alternatives alone"} {
-			if !strings.Contains(string(f.Data), want) {
-				t.Errorf("compare.md lacks %q:\n%s", want, f.Data)
+		for _, f := range files {
+			if f.Name == CompareMD {
+				return string(f.Data)
 			}
 		}
+		t.Fatal("no compare.md")
+		return ""
+	}
+	got := md()
+	for _, want := range []string{"gap to the bound (here 16.35 to 20.43 %)",
+		"A row whose \"search started from\" names a base scenario began its search from that scenario's routes, searched with fewer moves than `spanwright plan` searches a plan from scratch",
+		"so it may come out cheaper or dearer than the plan made alone, within that gap",
+		"| search started from |", "| 16.35 | cold |",
+		"Two totals that differ by less than their gaps are not proved to differ by the alternatives alone"} {
+		if !strings.Contains(got, want) {
+			t.Errorf("compare.md lacks %q:\n%s", want, got)
+		}
+	}
+	rows[1].StartedFrom = ""
+	if got := md(); !strings.Contains(got, "Every row is planned from scratch, as `spanwright plan` plans it alone") {
+		t.Errorf("compare.md without a warm row:\n%s", got)
 	}
 }
 

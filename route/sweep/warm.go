@@ -15,6 +15,7 @@ import (
 	"syscall"
 
 	"spanwright/geo/input"
+	"spanwright/route"
 	"spanwright/route/fileset"
 	"spanwright/route/output"
 	"spanwright/route/plan"
@@ -125,7 +126,11 @@ func (r *runner) planned(ctx context.Context, sc Scenario) (outcome, error) {
 }
 
 // startOf is the warm start of scenario sc with plan p: the base's routes when sc is another
-// scenario on the base's site, nil otherwise.
+// scenario on the base's site whose plan the start is worth it for (route.WarmStart: a problem
+// too large for the optimizer's full search from scratch, and a start with a route for some
+// link of the scenario), nil otherwise: the scenario is then planned from scratch, as
+// `spanwright plan` plans it alone and --cold does. A site or engine that does not load gives
+// nil too, and the scenario fails where it would have failed anyway.
 func (r *runner) startOf(sc Scenario, p *plan.Plan) *routing.Start {
 	b := r.base
 	if b == nil || b.start == nil || sc.Index == b.index {
@@ -134,7 +139,18 @@ func (r *runner) startOf(sc Scenario, p *plan.Plan) *routing.Start {
 	if _, _, key := siteOf(p); key != b.siteKey {
 		return nil
 	}
-	return b.start
+	if r.opt.warmAlways {
+		return b.start
+	}
+	site, err := r.site(p)
+	if err != nil {
+		return nil
+	}
+	eng, err := r.engine(p)
+	if err != nil {
+		return nil
+	}
+	return route.WarmStart(site, p, eng, b.start)
 }
 
 // warmHeader returns a warm-started scenario's plan.yaml with, after its first line (the

@@ -12,7 +12,8 @@ import (
 	"testing"
 )
 
-// TestWarmStartSameBytes: the warm-started sweep of the demo campus (two hubs, two rates, a
+// TestWarmStartSameBytes: the warm-started sweep of the demo campus (warmAlways: by default
+// a campus this small is planned from scratch, TestSmallSweepPlansCold) (two hubs, two rates, a
 // case with every link diverse, a failing case) gives the same bytes in every shard (the
 // shard without the base scenario plans the base too) and on --resume, which keeps every
 // folder; every scenario on the base's network but the base names it as started_from and
@@ -24,12 +25,12 @@ func TestWarmStartSameBytes(t *testing.T) {
 	f := load(t, "small.yaml")
 	base := f.Scenarios()[0]
 	whole := t.TempDir()
-	run(t, f, Options{Out: whole, Jobs: 2})
+	run(t, f, Options{Out: whole, Jobs: 2, warmAlways: true})
 	all := tree(t, whole)
 
 	shards := t.TempDir()
 	for _, s := range []Shard{{I: 2, N: 3}, {I: 3, N: 3}} { // neither holds scenario 0
-		run(t, f, Options{Out: shards, Jobs: 2, Shard: s})
+		run(t, f, Options{Out: shards, Jobs: 2, Shard: s, warmAlways: true})
 	}
 	got := tree(t, shards)
 	n := 0
@@ -48,7 +49,7 @@ func TestWarmStartSameBytes(t *testing.T) {
 		t.Fatal("the shards wrote no scenario files")
 	}
 
-	rep := run(t, f, Options{Out: whole, Jobs: 2, Resume: true})
+	rep := run(t, f, Options{Out: whole, Jobs: 2, Resume: true, warmAlways: true})
 	if rep.Skipped != rep.Run-rep.Failed {
 		t.Errorf("resume: %d of %d kept (%d failed), want every planned one", rep.Skipped, rep.Run, rep.Failed)
 	}
@@ -57,7 +58,7 @@ func TestWarmStartSameBytes(t *testing.T) {
 	if err := os.WriteFile(filepath.Join(whole, base.ID, "routes.geojson"), []byte("{"), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	rep = run(t, f, Options{Out: whole, Jobs: 2, Resume: true})
+	rep = run(t, f, Options{Out: whole, Jobs: 2, Resume: true, warmAlways: true})
 	if rep.Skipped != rep.Run-rep.Failed-1 {
 		t.Errorf("resume with a broken base: %d of %d kept (%d failed), want all but the base", rep.Skipped, rep.Run, rep.Failed)
 	}
@@ -106,14 +107,14 @@ func TestWarmStartSameBytes(t *testing.T) {
 			t.Errorf("cold: %s names a start", name)
 		}
 	}
-	rep = run(t, f, Options{Out: cold, Jobs: 2, Resume: true})
+	rep = run(t, f, Options{Out: cold, Jobs: 2, Resume: true, warmAlways: true})
 	if rep.Skipped != 1 {
 		t.Errorf("a cold sweep resumed warm kept %d scenarios, want 1 (the base)", rep.Skipped)
 	}
 	sameTree(t, "resumed warm over cold", all, tree(t, cold))
 }
 
-// TestWarmHeader: a warm-started scenario's plan.yaml says, in its header, which base
+// TestWarmHeader (warmAlways, as TestWarmStartSameBytes): a warm-started scenario's plan.yaml says, in its header, which base
 // scenario it started from and the command that reproduces it; the base's and a cold sweep's
 // do not; and the header is the same bytes whatever the output folder (the file names below
 // it are relative to the scenario's folder, so they follow the folder's depth).
@@ -122,8 +123,8 @@ func TestWarmHeader(t *testing.T) {
 	f := parseInline(t, "vary:\n  defaults.rate: [10G, 25G]")
 	base, other := f.Scenarios()[0], f.Scenarios()[1]
 	a, b := t.TempDir(), filepath.Join(t.TempDir(), "deeper", "out")
-	run(t, f, Options{Out: a})
-	run(t, f, Options{Out: b})
+	run(t, f, Options{Out: a, warmAlways: true})
+	run(t, f, Options{Out: b, warmAlways: true})
 	read := func(dir, id string) string {
 		data, err := os.ReadFile(filepath.Join(dir, id, PlanFile))
 		if err != nil {
@@ -166,7 +167,7 @@ func TestResumeReplansEditedBase(t *testing.T) {
 	t.Parallel()
 	f := parseInline(t, "vary:\n  defaults.rate: [10G, 25G]\n  design.slack_m: [3, 6]")
 	dir := t.TempDir()
-	run(t, f, Options{Out: dir})
+	run(t, f, Options{Out: dir, warmAlways: true})
 	before := tree(t, dir)
 	base := f.Scenarios()[0]
 	routes := filepath.Join(dir, base.ID, "routes.geojson")
@@ -187,7 +188,7 @@ func TestResumeReplansEditedBase(t *testing.T) {
 	if err := os.WriteFile(routes, edited, 0o644); err != nil {
 		t.Fatal(err)
 	}
-	rep := run(t, f, Options{Out: dir, Resume: true})
+	rep := run(t, f, Options{Out: dir, Resume: true, warmAlways: true})
 	if rep.Skipped != rep.Run-1 {
 		t.Errorf("resume after editing the base's routes: %d of %d kept, want all but the base", rep.Skipped, rep.Run)
 	}
@@ -216,12 +217,12 @@ func TestResumeOutputsPastCap(t *testing.T) {
 	const capBytes = 100_000
 	f.MaxInputBytes = capBytes
 	dir := t.TempDir()
-	run(t, f, Options{Out: dir})
+	run(t, f, Options{Out: dir, warmAlways: true})
 	base := f.Scenarios()[0]
 	if st, err := os.Stat(filepath.Join(dir, base.ID, "plan.gpkg")); err != nil || st.Size() <= capBytes {
 		t.Fatalf("plan.gpkg %v: want it larger than the cap, %d bytes", err, capBytes)
 	}
-	rep := run(t, f, Options{Out: dir, Resume: true})
+	rep := run(t, f, Options{Out: dir, Resume: true, warmAlways: true})
 	if rep.Skipped != rep.Run || len(rep.Notes) != 0 {
 		t.Errorf("resume: %d of %d kept, notes %q; want all kept, no note", rep.Skipped, rep.Run, rep.Notes)
 	}
@@ -267,10 +268,16 @@ func TestWarmBaseOrder(t *testing.T) {
 				t.Fatal(err)
 			}
 			var s struct {
-				ObjectiveCents int64 `json:"objective_cents"`
+				ObjectiveCents int64  `json:"objective_cents"`
+				StartedFrom    string `json:"started_from"`
 			}
 			if err := json.Unmarshal(data, &s); err != nil {
 				t.Fatal(err)
+			}
+			// 200 buildings are beyond the optimizer's full search from scratch
+			// (optimize.WarmPays): a warm sweep still starts every other scenario from its base.
+			if base := f.Scenarios()[0].ID; order.name != "cold" && sc.ID != base && s.StartedFrom != base {
+				t.Errorf("%s, %s: started_from %q, want the base %s", order.name, sc.ID, s.StartedFrom, base)
 			}
 			// The id without its hash (which hashes the values' order too): prices-t0-c0-1g.
 			id := sc.ID[:strings.LastIndexByte(sc.ID, '-')]
@@ -300,5 +307,31 @@ func TestWarmBaseOrder(t *testing.T) {
 				t.Errorf("%s, %s: 10G plan %d cents, 1G plan %d: dearer optics came out cheaper by more than the search's noise", name, book, g10, g1)
 			}
 		}
+	}
+}
+
+// TestSmallSweepPlansCold: on a campus small enough for the optimizer's full search from
+// scratch (the demo campus: optimize.WarmPays false), a default sweep plans every scenario
+// from scratch, as `spanwright plan` plans it alone, so no row depends on which scenario is
+// the base or in what order the axis values are listed (tester 12's findings 1 and 7): every
+// file of the default sweep is the --cold sweep's, byte for byte, no summary names a start,
+// and a cold sweep resumed by default keeps every scenario. Common practice, no published
+// source: alternatives are compared on equal search.
+func TestSmallSweepPlansCold(t *testing.T) {
+	t.Parallel()
+	f := load(t, "small.yaml")
+	warm, cold := t.TempDir(), t.TempDir()
+	run(t, f, Options{Out: warm, Jobs: 2})
+	run(t, f, Options{Out: cold, Jobs: 2, Cold: true})
+	got := tree(t, warm)
+	sameTree(t, "default against --cold", tree(t, cold), got)
+	for name, data := range got {
+		if strings.HasSuffix(name, "/"+SummaryFile) && bytes.Contains(data, []byte(`"started_from"`)) {
+			t.Errorf("%s names a start", name)
+		}
+	}
+	rep := run(t, f, Options{Out: cold, Jobs: 2, Resume: true})
+	if rep.Skipped != rep.Run-rep.Failed {
+		t.Errorf("a cold sweep resumed by default kept %d of %d (%d failed), want every planned one", rep.Skipped, rep.Run, rep.Failed)
 	}
 }
