@@ -41,9 +41,10 @@ type state struct {
 	overfull int
 	unrouted int
 	unmet    int
-	// paidCents is the fixed prices paid afresh since the state began, never taken back: an
-	// edge's FixedCents when it opens, a charge when first used, the trench of an edge's first
-	// added duct. Only differences are read (closeSet).
+	// paidCents is the fixed prices of construction paid afresh since the state began, never
+	// taken back: an edge's FixedCents when it opens, the trench of an edge's first added duct.
+	// Only differences are read (closeSet). Charges are left out: nearly every detour pays one
+	// (a handhole where it turns), which would keep every close move going to its end.
 	paidCents int64
 }
 
@@ -297,7 +298,6 @@ func (sv *solver) add(d int, c choice) {
 				for _, k := range sv.chargesOf(e) {
 					if st.chUse[k]++; st.chUse[k] == 1 {
 						st.total += sv.p.Charges[k].Cents
-						st.paidCents += sv.p.Charges[k].Cents
 						sv.chargeHash ^= mix(uint64(k), 29)
 					}
 				}
