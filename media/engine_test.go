@@ -1207,6 +1207,30 @@ func TestChooseOwn(t *testing.T) {
 	if ch.InsideAM != 20 || ch.InsideBM != 20 {
 		t.Errorf("inside cable %.2f m and %.2f m, want 20 m at each end", ch.InsideAM, ch.InsideBM)
 	}
+	// The engine's own order across the layings' cables, prefer rules first (review 16 F6: the
+	// fallback ranked the end sets by cost alone): a rule preferring the transition at both
+	// entrances picks it over indoor/outdoor cable, cheaper on its own cable.
+	pref, err := ParseRules("prefer.yaml", append(slices.Clone(rulesYAML), []byte(`
+  - id: prefer-both-ends
+    when: transition_a and transition_b
+    effect: prefer
+    reason: "a test's preference"
+`)...))
+	if err != nil {
+		t.Fatal(err)
+	}
+	ep := newEngine(t, nil, pref, EngineOptions{})
+	slack := func(at Ends) OwnCable {
+		if at == EndsBoth {
+			return OwnCable{SlackM: 9}
+		}
+		return OwnCable{SlackM: 10}
+	}
+	io := ep.ChooseLaid(l, "os2", Laying{Construction: "indoor-outdoor"})
+	if ch := ep.ChooseOwn(l, slack); !ch.Feasible || ch.InsideAt != EndsBoth || !io.Feasible || ch.CostCents <= io.CostCents {
+		t.Errorf("a rule preferring both entrances: %s spliced at %v at %s, indoor/outdoor at %s: want the transition, dearer",
+			ch.Construction, ch.InsideAt, FormatCents(ch.CostCents), FormatCents(io.CostCents))
+	}
 }
 
 // TestTransitionFullPrice is review 14's finding 7: the engine weighs an entrance transition
