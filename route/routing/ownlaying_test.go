@@ -21,7 +21,8 @@ import (
 // USD). Over the demo with reels of 100 to 1,000 m and 0 to 45 m of splicing slack a cable end
 // (common practice, no published source: the demo's invented figures), for every feasible
 // fibre leg:
-//   - its loss budget is its own cable's: the channel the budget counts, read back from the
+//   - its loss budget is its own cable's: its splices are the terminations, the cable's joins
+//     and the transition ends; the channel the budget counts, read back from the
 //     generic link limit (ANSI/TIA-568.3-D: attenuation × length, 0.75 dB a mated pair, 0.3 dB
 //     a splice), is the cable's channel, and the engine judging the leg's laying alone on the
 //     cable it buys gives the same losses;
@@ -33,7 +34,7 @@ import (
 func TestEachLayingOnItsOwnCable(t *testing.T) {
 	t.Parallel()
 	s, p := testsite.Demo(t)
-	judged, cheaper := 0, 0
+	judged, cheaper, term := 0, 0, -1
 	for _, reel := range []float64{0, 100, 120, 150, 200, 300, 500, 1000} {
 		for _, slack := range []float64{0, 15, 30, 45} {
 			q := *p
@@ -68,6 +69,14 @@ func TestEachLayingOnItsOwnCable(t *testing.T) {
 				name := fmt.Sprintf("reel %g slack %g %s %s", reel, slack, l.Link.ID, l.Name)
 				c, f := l.Cable, l.facts
 				for _, x := range l.Losses {
+					// The splices: the terminations' (the same on every leg of the demo, which
+					// has no other), the cable's joins and the transition ends.
+					if term < 0 {
+						term = x.Splices - c.Joins - l.InsideAt.Count()
+					}
+					if x.Splices != term+c.Joins+l.InsideAt.Count() {
+						t.Errorf("%s: the budget at %d nm counts %d splices, want %d terminations + %d joins + %d transition ends", name, x.WavelengthNM, x.Splices, term, c.Joins, l.InsideAt.Count())
+					}
 					// ANSI/TIA-568.3-D generic link limit: 0.75 dB a mated pair, 0.3 dB a splice.
 					channelM := (x.CablingLimitDB - 0.75*float64(x.Pairs) - 0.3*float64(x.Splices)) / x.AttenDBPerKm * 1000
 					if math.Abs(channelM-c.ChannelM) > 0.01 {
