@@ -813,28 +813,60 @@ func (c Choice) clone() Choice {
 // fillLeg: the reel joins of the cable the laying buys, fewer than the count the choice was
 // made on) measures it so, and says how it was chosen. Not remembered.
 func (e *Engine) ChooseLaid(l Link, medium string, lay Laying) Choice {
-	ch := e.chooseAmong(l, true, func(m *Medium, k *Construction, v variant) bool {
+	ch := e.chooseAmong(sameLinks(l), true, func(m *Medium, k *Construction, v variant) bool {
 		return m.ID == medium && layingOf(k, v) == lay
 	})
 	ch.Rejected = nil
 	return ch
 }
 
-// ChooseAt is Choose among the candidates laid with an entrance transition at the ends at
-// alone (EndsNone: none): a caller whose facts hold the reel joins of the cable those layings
-// buy (routing's fillLeg: a transition's outside cable takes fewer than the whole) judges them
-// on their own cable. Not remembered.
-func (e *Engine) ChooseAt(l Link, at Ends) Choice {
-	return e.chooseAmong(l, false, func(_ *Medium, k *Construction, v variant) bool { return layingOf(k, v).At == at })
+// OwnCable is the cable a laying buys, as a link's facts count it: its slack (Link.SlackM)
+// and its splices (Link.Splices, the mid-span joins with the link's others).
+type OwnCable struct {
+	SlackM  float64
+	Splices int
 }
 
-func (e *Engine) choose(l Link) Choice { return e.chooseAmong(l, false, nil) }
+// ChooseOwn is Choose with every candidate judged on the cable its own laying buys: one laid
+// with an entrance transition at the ends at (EndsNone: none) on l with the slack and splices
+// own(at) gives, the rest of l's facts as they are. A caller whose layings buy different cables
+// (routing's fillLeg: the reel joins are placed over the outside-plant cable between a
+// transition's splices, which may take fewer than the whole cable) so has each judged on its
+// own cut. All candidates are ranked together in Choose's order (prefer rules, cost, margin,
+// catalog order), the rejections are of each medium's best on its own cable, and the reason
+// and losses are the winner's on its own; with no feasible candidate the reason is of the
+// cable without a transition (own(EndsNone)). When every laying's cable is the same, it is
+// Choose (remembered); otherwise not remembered.
+func (e *Engine) ChooseOwn(l Link, own func(at Ends) OwnCable) Choice {
+	var links [EndsBoth + 1]Link
+	same := true
+	for at := range links {
+		c := own(Ends(at))
+		links[at] = l
+		links[at].SlackM, links[at].Splices = c.SlackM, c.Splices
+		same = same && links[at].SlackM == links[0].SlackM && links[at].Splices == links[0].Splices
+	}
+	if same {
+		return e.Choose(links[0])
+	}
+	return e.chooseAmong(links, false, nil)
+}
 
-// chooseAmong is choose among the candidates keep keeps (all when nil); laid: keep keeps one
-// laying of one medium, which the reason then compares with no other (ChooseLaid).
-func (e *Engine) chooseAmong(l Link, laid bool, keep func(m *Medium, k *Construction, v variant) bool) Choice {
-	if msg := checkLink(l); msg != "" {
-		return Choice{Reason: fmt.Sprintf("%s: bad facts: %s", linkName(l), msg), Code: CodeBadFacts}
+func (e *Engine) choose(l Link) Choice { return e.chooseAmong(sameLinks(l), false, nil) }
+
+// sameLinks is l for every set of transition ends: the candidates all judged on l's facts.
+func sameLinks(l Link) [EndsBoth + 1]Link { return [EndsBoth + 1]Link{l, l, l, l} }
+
+// chooseAmong is choose among the candidates keep keeps (all when nil), each judged on the
+// link of its transition's ends (links[at]; links differ in SlackM and Splices alone,
+// ChooseOwn); laid: keep keeps one laying of one medium, which the reason then compares with
+// no other (ChooseLaid).
+func (e *Engine) chooseAmong(links [EndsBoth + 1]Link, laid bool, keep func(m *Medium, k *Construction, v variant) bool) Choice {
+	l := links[EndsNone] // the variants, the rate and, with none feasible, the reason's
+	for _, x := range links {
+		if msg := checkLink(x); msg != "" {
+			return Choice{Reason: fmt.Sprintf("%s: bad facts: %s", linkName(x), msg), Code: CodeBadFacts}
+		}
 	}
 	type spec struct {
 		mi, ai, ki int
@@ -858,7 +890,6 @@ func (e *Engine) chooseAmong(l Link, laid bool, keep func(m *Medium, k *Construc
 			}
 		}
 	}
-	at := linkLengths(l)
 	// The candidates are large (every fact of the rule language): one slice for all, taken
 	// from those earlier choices left. Nothing of a candidate outlives choose but what the
 	// Choice copies (its losses are allocated per evaluation), so the slice goes back after.
@@ -872,7 +903,7 @@ func (e *Engine) chooseAmong(l Link, laid bool, keep func(m *Medium, k *Construc
 	var ok []*candidate
 	for i, s := range specs {
 		c := &pool[i]
-		e.evaluate(c, l, at, s.mi, s.ai, s.ki, s.v)
+		e.evaluate(c, links[s.v.at], linkLengths(links[s.v.at]), s.mi, s.ai, s.ki, s.v)
 		all[i] = c
 		if c.failed < 0 {
 			ok = append(ok, c)
@@ -887,6 +918,7 @@ func (e *Engine) chooseAmong(l Link, laid bool, keep func(m *Medium, k *Construc
 	var win *candidate
 	if len(ok) > 0 {
 		win = ok[0]
+		l = links[win.at] // the winner's own facts, for its reason
 		ch = Choice{Feasible: true, Medium: win.m.ID, Application: win.a.Name, Construction: win.k.ID,
 			Losses: win.losses, CostCents: win.costCents,
 			CableCents: win.cableCents, LabourCents: win.labourCents, Strands: win.strands, Cables: win.cables,
@@ -897,7 +929,7 @@ func (e *Engine) chooseAmong(l Link, laid bool, keep func(m *Medium, k *Construc
 		if win.inside != nil {
 			ch.Inside, ch.InsideAt = win.inside.ID, win.at
 			ch.InsideCables, _ = e.Cables(win.m, win.inside, win.strands)
-			ch.InsideAM, ch.InsideBM = l.transitionInsideM(at.channelM, win.at)
+			ch.InsideAM, ch.InsideBM = l.transitionInsideM(l.ChannelM(), win.at)
 			ch.InsideM = ch.InsideAM + ch.InsideBM
 		}
 	}

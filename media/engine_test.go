@@ -1165,6 +1165,74 @@ func TestChooseLaid(t *testing.T) {
 	}
 }
 
+// TestChooseOwn: each laying judged on the cable it buys. On TestChooseLaid's duct link,
+// with the same cable for every laying, ChooseOwn is Choose (os2 on indoor/outdoor cable).
+// With 40 mid-span joins on the whole cable (12 dB of splices at 0.3 dB each, ANSI/TIA-568.3-D,
+// from memory: no medium closes, Choose says so) but none on the outside-plant cable between
+// splices at both entrances, 5 m less slack there, the transition at both entrances is
+// chosen, with its own cable's losses (two transition splices and no joins: ChooseLaid on
+// that cable) and its own channel in the reason (535 m, not the whole's 540 m).
+func TestChooseOwn(t *testing.T) {
+	t.Parallel()
+	e := newEngine(t, nil, nil, EngineOptions{})
+	l := Link{ID: "L", RouteM: 500, RiserM: 30, SlackM: 10, RateGbps: 10, Outdoor: true, ConnectorPairs: 2, Strands: 12,
+		InsideAM: 20, InsideBM: 20, PathwayTypes: []string{"duct"}, MaxEMI: "none"}
+	same := e.ChooseOwn(l, func(Ends) OwnCable { return OwnCable{SlackM: l.SlackM, Splices: l.Splices} })
+	if ch := e.Choose(l); !reflect.DeepEqual(same, ch) {
+		t.Errorf("one cable for every laying: %+v, Choose %+v", same, ch)
+	}
+	own := func(at Ends) OwnCable {
+		if at == EndsBoth {
+			return OwnCable{SlackM: 5}
+		}
+		return OwnCable{SlackM: 10, Splices: 40}
+	}
+	whole := l
+	whole.Splices = 40
+	if ch := e.Choose(whole); ch.Feasible {
+		t.Fatalf("40 joins on the whole cable: %s on %s feasible, want no medium (the test would see nothing)", ch.Medium, ch.Construction)
+	}
+	ch := e.ChooseOwn(l, own)
+	both := Laying{Construction: "osp-loose-tube", Inside: "ofnr-riser", At: EndsBoth}
+	onOwn := l
+	onOwn.SlackM = 5
+	laid := e.ChooseLaid(onOwn, "os2", both)
+	if !ch.Feasible || ch.Medium != "os2" || ch.Construction != both.Construction || ch.Inside != both.Inside || ch.InsideAt != EndsBoth ||
+		!laid.Feasible || !slices.Equal(ch.Losses, laid.Losses) || ch.CostCents != laid.CostCents {
+		t.Fatalf("each on its own cable: %+v; want %s on its own cable: %+v", ch, both, laid)
+	}
+	if !strings.Contains(ch.Reason, "for a 535 m channel") || strings.Contains(ch.Reason, "540 m") {
+		t.Errorf("reason %q, want its own 535 m channel", ch.Reason)
+	}
+	if ch.InsideAM != 20 || ch.InsideBM != 20 {
+		t.Errorf("inside cable %.2f m and %.2f m, want 20 m at each end", ch.InsideAM, ch.InsideBM)
+	}
+	// The engine's own order across the layings' cables, prefer rules first (review 16 F6: the
+	// fallback ranked the end sets by cost alone): a rule preferring the transition at both
+	// entrances picks it over indoor/outdoor cable, cheaper on its own cable.
+	pref, err := ParseRules("prefer.yaml", append(slices.Clone(rulesYAML), []byte(`
+  - id: prefer-both-ends
+    when: transition_a and transition_b
+    effect: prefer
+    reason: "a test's preference"
+`)...))
+	if err != nil {
+		t.Fatal(err)
+	}
+	ep := newEngine(t, nil, pref, EngineOptions{})
+	slack := func(at Ends) OwnCable {
+		if at == EndsBoth {
+			return OwnCable{SlackM: 9}
+		}
+		return OwnCable{SlackM: 10}
+	}
+	io := ep.ChooseLaid(l, "os2", Laying{Construction: "indoor-outdoor"})
+	if ch := ep.ChooseOwn(l, slack); !ch.Feasible || ch.InsideAt != EndsBoth || !io.Feasible || ch.CostCents <= io.CostCents {
+		t.Errorf("a rule preferring both entrances: %s spliced at %v at %s, indoor/outdoor at %s: want the transition, dearer",
+			ch.Construction, ch.InsideAt, FormatCents(ch.CostCents), FormatCents(io.CostCents))
+	}
+}
+
 // TestTransitionFullPrice is review 14's finding 7: the engine weighs an entrance transition
 // on every item its end puts on the bill (TransitionEnds), so a 24-strand link that saves
 // 69.89 USD of cable, enclosure, trays and splicing with the transition, but spends 132.00

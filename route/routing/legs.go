@@ -99,6 +99,10 @@ type Leg struct {
 	Attenuators []media.Quantity
 
 	Cost LegCost
+
+	// facts are the facts its medium was judged on (fillLeg), its own cable's slack and
+	// joins in them; the zero Link on a leg with no route.
+	facts media.Link
 }
 
 // LegCost breaks down what one leg costs, in integer cents of the price book's currency: its
@@ -318,88 +322,37 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 	d := cm.design
 	// The joins are placed over the cable a laying buys from reels: the whole cable, or with an
 	// entrance transition the outside-plant cable between its splices (the inside pieces are
-	// cut from other reels), which may take fewer. The engine judges every laying on one count
-	// of joins, so it is asked on each count the layings' cables take, most first, and its
-	// choice stands on the first count that is its own laying's.
-	cutFor := func(at media.Ends, insideAM, insideBM float64, fewerPoints bool) CableTakeoff {
+	// cut from other reels), which may take fewer joins and less splicing slack. cutAt is the
+	// one placement of the cable each way of laying the ends buys, with the fewest joins or
+	// (fewerPoints) the fewest splice points to build: what the engine judges that laying on,
+	// what its loss budget counts and what the leg buys when it is chosen.
+	whole := leg.Cable // takeoff's: the whole cable, the fewest joins
+	cutAt := func(at media.Ends, fewerPoints bool) CableTakeoff {
+		if at == media.EndsNone && !fewerPoints {
+			return whole
+		}
+		insideAM, insideBM := facts.InsideAM, facts.InsideBM
 		if !at.Has(media.EndA) {
 			insideAM = 0
 		}
 		if !at.Has(media.EndB) {
 			insideBM = 0
 		}
-		return leg.Cable.cut(d, insideAM, insideBM, fewerPoints)
+		return whole.cut(d, insideAM, insideBM, fewerPoints)
 	}
-	whole := leg.Cable // takeoff's: the whole cable, the fewest joins
-	own := func(c media.Choice, fewerPoints bool) CableTakeoff {
-		if c.InsideAt == media.EndsNone && !fewerPoints {
-			return whole
-		}
-		return cutFor(c.InsideAt, c.InsideAM, c.InsideBM, fewerPoints)
-	}
-	cuts := []CableTakeoff{leg.Cable} // one per count of joins, most first: the whole cable's (takeoff)
-	for _, at := range []media.Ends{media.EndA, media.EndB, media.EndsBoth} {
-		if leg.Cable.Joins == 0 {
-			break // a part of the cable takes no more joins than the whole
-		}
-		t := cutFor(at, facts.InsideAM, facts.InsideBM, false)
-		if !slices.ContainsFunc(cuts, func(c CableTakeoff) bool { return c.Joins == t.Joins }) {
-			cuts = append(cuts, t)
-		}
-	}
-	slices.SortStableFunc(cuts, func(a, b CableTakeoff) int { return b.Joins - a.Joins })
-	// A choice stands only as judged on its own laying's cable: the count of joins and the
-	// slack of the placement that laying buys (review 15 F0, F1: a laying chosen on another
-	// cut was reported feasible on a budget of fewer joins, or a few metres less channel, than
-	// the cable it bought). A choice made on another cut is measured again on its own
-	// (media.Engine.ChooseLaid); the first that closes there stands, in the order of the cuts
-	// (most joins first). When none does, each way of laying the ends is judged on its own
-	// cut alone (media.Engine.ChooseAt), and the cheapest that closes stands.
-	sameCut := func(a, b CableTakeoff) bool { return a.Joins == b.Joins && a.SlackM() == b.SlackM() }
-	var ch media.Choice
-	settled := false
-	for k, t := range cuts {
-		f := withCable(facts, t)
-		c := cm.eng.Choose(f)
-		if k == 0 {
-			ch, leg.Cable = c, t // infeasible on every count: the whole cable's reasons
-		}
-		if !c.Feasible {
-			continue
-		}
-		mine := own(c, false)
-		if sameCut(mine, t) {
-			ch, leg.Cable, facts, settled = c, mine, f, true
-			break
-		}
-		fm := withCable(facts, mine)
-		if again := cm.eng.ChooseLaid(fm, c.Medium, media.Laying{Construction: c.Construction, Inside: c.Inside, At: c.InsideAt}); again.Feasible {
-			// The reason is the leg's own: its channel, cost and loss on the cable it buys; how
-			// it was chosen is a note (review 15 F2: the first choice's channel and cost led it).
-			again.Rejected, again.Code = c.Rejected, c.Code
-			again.Reason = fmt.Sprintf("%s; chosen as %s on %d mid-span joins, measured on its own cable's %d", again.Reason, media.Verdict(c.Code), t.Joins, mine.Joins)
-			ch, leg.Cable, facts, settled = again, mine, fm, true
-			break
-		}
-	}
-	if !settled {
-		var best media.Choice
-		var bestCut CableTakeoff
-		var bestFacts media.Link
-		for _, at := range []media.Ends{media.EndsNone, media.EndA, media.EndB, media.EndsBoth} {
-			t := whole
-			if at != media.EndsNone {
-				t = cutFor(at, facts.InsideAM, facts.InsideBM, false)
-			}
-			f := withCable(facts, t)
-			if c := cm.eng.ChooseAt(f, at); c.Feasible && (!best.Feasible || c.CostCents < best.CostCents) {
-				best, bestCut, bestFacts = c, t, f
-			}
-		}
-		if best.Feasible {
-			ch, leg.Cable, facts = best, bestCut, bestFacts
-		}
-	}
+	// Each way of laying the ends is judged on its own cut, and the engine ranks them all in
+	// its own order (media.Engine.ChooseOwn: review 15 F0, F1, review 16 F1: a laying judged on
+	// another cut's joins or slack was reported on a budget not its cable's, or refused where
+	// its own cable closes). With none feasible, the reason is the whole cable's.
+	var cuts [media.EndsBoth + 1]CableTakeoff
+	ch := cm.eng.ChooseOwn(facts, func(at media.Ends) media.OwnCable {
+		cuts[at] = cutAt(at, false)
+		f := withCable(facts, cuts[at])
+		return media.OwnCable{SlackM: f.SlackM, Splices: f.Splices}
+	})
+	leg.Cable = cuts[ch.InsideAt]
+	facts = withCable(facts, leg.Cable)
+	leg.facts = facts
 	leg.Rejected = ch.Rejected
 	leg.Choice, leg.ReasonCode = ch.Reason, ch.Code
 	if !ch.Feasible {
@@ -411,14 +364,20 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 	// placement is kept when it costs less (joinsCents,
 	// with the chosen cable; without splice_point_each, which the bill then leaves out of its
 	// total, a splice point is never traded for joins: the fewer splice points are kept) and
-	// the engine, judging it, keeps the same laying.
+	// the chosen laying closes on it.
 	if leg.Cable.SplicePoints() > 0 { // with none there is nothing to spare
 		_, pointPriced := cm.prices.Price(media.PriceKey{Item: media.PriceSplicePoint})
-		if alt := own(ch, true); alt.Joins > leg.Cable.Joins && alt.SplicePoints() < leg.Cable.SplicePoints() &&
+		if alt := cutAt(ch.InsideAt, true); alt.Joins > leg.Cable.Joins && alt.SplicePoints() < leg.Cable.SplicePoints() &&
 			(!pointPriced || cm.joinsCents(alt, ch, s.Net) < cm.joinsCents(leg.Cable, ch, s.Net)) {
+			// The chosen laying alone is judged on that placement (review 16 F7: no other laying
+			// is weighed on a count of joins not its own); its reason is its own there, and how
+			// it was chosen a note.
 			f := withCable(facts, alt)
-			if again := cm.eng.Choose(f); again.Feasible && sameLaying(again, ch) {
-				ch, leg.Cable, facts = again, alt, f
+			if again := cm.eng.ChooseLaid(f, ch.Medium, media.Laying{Construction: ch.Construction, Inside: ch.Inside, At: ch.InsideAt}); again.Feasible {
+				again.Rejected, again.Code = ch.Rejected, ch.Code
+				again.Reason = fmt.Sprintf("%s; chosen as %s on its fewest joins (%d), laid on %d for fewer splice points to build (%d, not %d)",
+					again.Reason, media.Verdict(ch.Code), leg.Cable.Joins, alt.Joins, alt.SplicePoints(), leg.Cable.SplicePoints())
+				ch, leg.Cable, leg.facts = again, alt, f
 				leg.Rejected, leg.Choice, leg.ReasonCode = ch.Rejected, ch.Reason, ch.Code
 			}
 		}
@@ -438,12 +397,6 @@ func fillLeg(s *site.Site, cm *Model, lay *layout, leg *Leg, ol optimize.Leg, op
 	if ch.Medium != optionMedium(option) {
 		leg.Choice += fmt.Sprintf(" (the optimizer routed it for %s)", optionMedium(option))
 	}
-}
-
-// sameLaying reports whether two choices lay the same cable: medium, construction and the
-// entrance transition with its ends.
-func sameLaying(a, b media.Choice) bool {
-	return a.Medium == b.Medium && a.Construction == b.Construction && a.Inside == b.Inside && a.InsideAt == b.InsideAt
 }
 
 // joinsCents is what a leg's mid-span joins cost laid as ch: per join and cable its
