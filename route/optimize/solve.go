@@ -34,7 +34,10 @@ import (
 //     existing edges on such routes whose next duct needs a trench no cable has paid yet
 //     (price that trench free the same way: the first added duct's trench is a fixed charge
 //     too, which no lone reroute pays, so a trunk's street would stay where the start put
-//     it); drop a paid charge (forbid its edges, reroute its users, keep if cheaper). Open moves are
+//     it); drop a paid charge (forbid its edges, reroute its users, keep if cheaper); replace a
+//     stretch of a single-leg route between two nodes one edge joins by that edge (shortcut.go:
+//     the searches price a charge on each edge of its set, so a route may go round a block to
+//     avoid paying one twice). Open moves are
 //     screened first by bounds and by an in-place estimate, and a failed move is not retried
 //     until a demand it involves changes route. A reroute is skipped when its memo shows that
 //     no edge its last searches read has become cheaper (memo.go): it would change nothing.

@@ -28,6 +28,13 @@ func TestNoNewTrenchNote(t *testing.T) {
 			"no new trench or bore (design.allow_new_trench: false); 1 handhole is still dug into existing pathways (1 where routes change pathway): " +
 				"a cable changes duct bank only in a structure (design.turn_handholes: false keeps routes to existing structures)"},
 		{Summary{}, "no new trench or bore (design.allow_new_trench: false); no handhole is built"},
+		// Splice points between reels are dug too (review 17 F3).
+		{Summary{SplicePointsToBuild: 2}, "no new trench or bore (design.allow_new_trench: false); no handhole at a junction; " +
+			"and 2 splice points to build between reels (a handhole each where underground)"},
+		{Summary{HandholesToBuild: 1, TurnHandholes: 1, SplicePointsToBuild: 1},
+			"no new trench or bore (design.allow_new_trench: false); 1 handhole is still dug into existing pathways (1 where routes change pathway): " +
+				"a cable changes duct bank only in a structure (design.turn_handholes: false keeps routes to existing structures); " +
+				"and 1 splice point to build between reels (a handhole each where underground)"},
 	} {
 		if got := NoNewTrenchNote(c.s); got != c.want {
 			t.Errorf("got  %q\nwant %q", got, c.want)

@@ -1104,7 +1104,16 @@ func NoNewTrenchNote(s Summary) string {
 	if s.NewTrenchM > 0 {
 		note += " but the counted laterals to buildings no pathway reaches"
 	}
+	splices := ""
+	if s.SplicePointsToBuild > 0 {
+		// The splice points between reels are dug too (a handhole each, but a closure on an
+		// aerial span's strand): review 17 F3.
+		splices = "; and " + Counted(s.SplicePointsToBuild, "splice point", "splice points") + " to build between reels (a handhole each where underground)"
+	}
 	if s.HandholesToBuild == 0 {
+		if splices != "" {
+			return note + "; no handhole at a junction" + splices
+		}
 		return note + "; no handhole is built"
 	}
 	var why []string
@@ -1126,8 +1135,8 @@ func NoNewTrenchNote(s Summary) string {
 	if s.TurnHandholes > 0 {
 		turns = " (design.turn_handholes: false keeps routes to existing structures)"
 	}
-	return fmt.Sprintf("%s; %s still dug into existing pathways (%s): a cable changes duct bank only in a structure%s",
-		note, Counted(s.HandholesToBuild, "handhole is", "handholes are"), strings.Join(why, ", "), turns)
+	return fmt.Sprintf("%s; %s still dug into existing pathways (%s): a cable changes duct bank only in a structure%s%s",
+		note, Counted(s.HandholesToBuild, "handhole is", "handholes are"), strings.Join(why, ", "), turns, splices)
 }
 
 // NotPricedNote says, when the book leaves out prices the bill needs, that the total leaves
