@@ -255,16 +255,16 @@ func (sv *solver) closeSet(id int32, edges, users []int32, save int64) bool {
 		return false
 	}
 	// The move is abandoned once the users rerouted so far cost more than what closing can
-	// save: the edges' own prices (save) and the construction the reroutes paid afresh (a
-	// span opened, a first added duct's trench: state.paidCents), which the users still to
-	// move may share: each of them is at its cheapest route now, so it gets cheaper mostly by
-	// riding what the moved ones built. Without the second part the move gave up where the
-	// first user's detour opened a trench the others would then take. Measured (GNU time,
-	// load 3-6): the generated 200-building campus with trench at 3 times the demo's price
-	// (TestWarmBaseOrder's), objective 4,888,394.49 -> 4,773,782.23 USD (-2.3 %); the
-	// 1,000-building one 24,173,063.68 -> 23,859,059.86 (-1.3 %) at 5.1 -> 7.0 s user.
-	// Counting the charges too (handholes, which nearly every detour pays) gave -3.0 % and
-	// +0.4 % at 8.0 s.
+	// save: the edges' own prices (save) and the construction the reroutes built, net of what
+	// they gave up (a span opened, a first added duct's trench: state.paidCents), which the
+	// users still to move may share: each of them is at its cheapest route now, so it gets
+	// cheaper mostly by riding what the moved ones built. Without the second part the move
+	// gave up where the first user's detour opened a trench the others would then take (the
+	// generated 200-building campus with trench at 3 times the demo's price stayed 2-3 %
+	// dearer: TestWarmBaseOrder). Counting what was built gross (a link leaving its own span
+	// and taking it again counted it) cost up to 1.8 times the CPU at 100-200 buildings
+	// (review 17 F1); counting the charges too (handholes, which nearly every detour pays)
+	// kept every move going to its end. README Performance, 11:50, has the figures.
 	paid0 := sv.st.paidCents
 	olds := make([]choice, 0, len(users))
 	var done []int32

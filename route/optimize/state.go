@@ -41,10 +41,11 @@ type state struct {
 	overfull int
 	unrouted int
 	unmet    int
-	// paidCents is the fixed prices of construction paid afresh since the state began, never
-	// taken back: an edge's FixedCents when it opens, the trench of an edge's first added duct.
-	// Only differences are read (closeSet). Charges are left out: nearly every detour pays one
-	// (a handhole where it turns), which would keep every close move going to its end.
+	// paidCents is the construction the plan pays, counted as it opens and closes: an edge's
+	// FixedCents, the trench of an edge's first added duct. Only differences are read
+	// (closeSet: what a move's reroutes built, net of what they gave up, so a link that leaves
+	// its own span and takes it again adds nothing). Charges are left out: nearly every detour
+	// pays one (a handhole where it turns), which would keep every close move going to its end.
 	paidCents int64
 }
 
@@ -228,8 +229,11 @@ func (sv *solver) applyDucts(e, added int, ok bool) {
 		st.over[e] = !ok
 	}
 	if !sv.length {
-		if st.added[e] == 0 && added > 0 {
+		switch {
+		case st.added[e] == 0 && added > 0:
 			st.paidCents += sv.trenchCent[e]
+		case st.added[e] > 0 && added == 0:
+			st.paidCents -= sv.trenchCent[e]
 		}
 		st.total += sv.ductsCents(e, added) - sv.ductsCents(e, st.added[e])
 	}
@@ -436,6 +440,7 @@ func (sv *solver) remove(d int) choice {
 			st.count[e]--
 			if st.count[e] == 0 {
 				st.total -= sv.fixedE[e]
+				st.paidCents -= sv.fixedE[e]
 				if !sv.phantom[e] {
 					sv.freeChanged(int32(e), false)
 				}
