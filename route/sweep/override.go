@@ -324,8 +324,9 @@ func deleteKey(m *yaml.Node, key string) {
 // link between the two buildings, which the scenario still has, served the other way. It
 // returns the note saying so, "" when nothing was carried: the hubs are the same, no entry is
 // for the scenario's hub, or an entry is already for the base's hub (then site.Site.Links
-// drops the one for the scenario's hub, and says so).
-func carryHubLink(root, baseRoot *yaml.Node) string {
+// drops the one for the scenario's hub, and says so). baseHub is the base plan's hub when its
+// root names none (the campus's building with role mc: runner.baseHub).
+func carryHubLink(root, baseRoot *yaml.Node, baseHub string) string {
 	hubOf := func(m *yaml.Node) string {
 		if v := lookup(m, "hub"); v != nil && v.Kind == yaml.ScalarNode && v.Tag != "!!null" {
 			return v.Value
@@ -333,6 +334,9 @@ func carryHubLink(root, baseRoot *yaml.Node) string {
 		return ""
 	}
 	hub, base := hubOf(root), hubOf(baseRoot)
+	if base == "" {
+		base = baseHub
+	}
 	links := lookup(root, "links")
 	if hub == "" || base == "" || hub == base || links == nil || links.Kind != yaml.SequenceNode {
 		return ""

@@ -340,6 +340,10 @@ type runner struct {
 	// and only read while they are.
 	base *baseStart
 
+	// baseHubOnce and baseHubID: the base plan's hub when it names none (baseHub).
+	baseHubOnce sync.Once
+	baseHubID   string
+
 	mu      sync.Mutex
 	skipped int
 	notes   []string // what the run did that the user may not expect (Report.Notes)
@@ -743,7 +747,7 @@ func (r *runner) planYAMLNote(sc Scenario) ([]byte, string, error) {
 	root := doc.Content[0]
 	rebasePlanPaths(root, r.rebaseBase)
 	apply(root, sc.Set, r.rebaseSweep)
-	note := carryHubLink(root, r.f.baseDoc.Content[0])
+	note := carryHubLink(root, r.f.baseDoc.Content[0], r.baseHub())
 	head := "scenario " + sc.ID + ": " + escape.Visible(sc.Describe()) // YAML comments allow no control characters
 	if b := builtIns(root); b != "" {
 		// Part of the plan's bytes, so a resumed sweep plans again when a new build changes
@@ -1052,6 +1056,29 @@ const (
 	engineCacheSize = 32
 	hashCacheSize   = 4096
 )
+
+// baseHub is the hub of a base plan that names none: the campus's building with role mc, as
+// site.Site.Hub takes it; "" when the plan names one (carryHubLink reads it then) or when its
+// campus does not load or has no mc (the scenario's own planning reports that). Review 17 F2:
+// without it a sweep over the hub of such a plan dropped the diverse hub link silently.
+func (r *runner) baseHub() string {
+	r.baseHubOnce.Do(func() {
+		if v := lookup(r.f.baseDoc.Content[0], "hub"); v != nil && v.Kind == yaml.ScalarNode && v.Tag != "!!null" {
+			return
+		}
+		p, err := plan.ParsePlanOptions(r.f.Base, r.f.baseData, plan.LoadOptions{CampusDatabase: r.opt.CampusDatabase})
+		if err != nil {
+			return
+		}
+		p.MaxInputBytes = r.f.MaxInputBytes
+		s, err := r.site(p)
+		if err != nil {
+			return
+		}
+		r.baseHubID = s.MainCrossConnect()
+	})
+	return r.baseHubID
+}
 
 // site returns the site of the plan's campus files and noding options, built once and
 // shared read-only.

@@ -23,6 +23,7 @@ import (
 
 	"spanwright/route"
 	"spanwright/route/fileset"
+	"spanwright/route/output"
 )
 
 func run(t *testing.T, f *File, opt Options) *Report {
@@ -722,18 +723,22 @@ func TestCablesPerDuctAxis(t *testing.T) {
 // TestCarryHubLink: only an entry for the scenario's hub with no from (or from itself) is
 // carried the other way; a skip stays dropped, and an entry of the plan for the base's hub
 // already wins (site.Site.Links then drops the other, with its note); the same hub carries
-// nothing.
+// nothing. A base plan that names no hub has the campus's building with role mc for its hub
+// (site.Site.Hub): the entry is carried to it all the same (review 17 F2).
 func TestCarryHubLink(t *testing.T) {
 	t.Parallel()
 	cases := []struct {
 		name, base, scenario, want string
+		baseHub                    string
 	}{
+		{"the base names none: its mc", "links: [{to: LIB, redundancy: diverse}]", "hub: LIB\nlinks: [{to: LIB, redundancy: diverse}]",
+			"{to: ADM, redundancy: diverse, from: LIB}", "ADM"},
 		{"carried", "hub: ADM\nlinks: [{to: LIB, redundancy: diverse}]", "hub: LIB\nlinks: [{to: LIB, redundancy: diverse}]",
-			"{to: ADM, redundancy: diverse, from: LIB}"},
-		{"same hub", "hub: ADM\nlinks: [{to: LIB, redundancy: diverse}]", "hub: ADM\nlinks: [{to: LIB, redundancy: diverse}]", ""},
-		{"skip stays dropped", "hub: ADM\nlinks: [{to: LIB, skip: true}]", "hub: LIB\nlinks: [{to: LIB, skip: true}]", ""},
-		{"the base's hub has its own", "hub: ADM\nlinks: [{to: LIB}, {to: ADM, rate: 1G}]", "hub: LIB\nlinks: [{to: LIB}, {to: ADM, rate: 1G}]", ""},
-		{"from another building stays", "hub: ADM\nlinks: [{to: LIB, from: ENG}]", "hub: LIB\nlinks: [{to: LIB, from: ENG}]", ""},
+			"{to: ADM, redundancy: diverse, from: LIB}", ""},
+		{"same hub", "hub: ADM\nlinks: [{to: LIB, redundancy: diverse}]", "hub: ADM\nlinks: [{to: LIB, redundancy: diverse}]", "", ""},
+		{"skip stays dropped", "hub: ADM\nlinks: [{to: LIB, skip: true}]", "hub: LIB\nlinks: [{to: LIB, skip: true}]", "", ""},
+		{"the base's hub has its own", "hub: ADM\nlinks: [{to: LIB}, {to: ADM, rate: 1G}]", "hub: LIB\nlinks: [{to: LIB}, {to: ADM, rate: 1G}]", "", ""},
+		{"from another building stays", "hub: ADM\nlinks: [{to: LIB, from: ENG}]", "hub: LIB\nlinks: [{to: LIB, from: ENG}]", "", ""},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
@@ -744,7 +749,7 @@ func TestCarryHubLink(t *testing.T) {
 			if err := yaml.Unmarshal([]byte(tc.scenario), &sc); err != nil {
 				t.Fatal(err)
 			}
-			note := carryHubLink(sc.Content[0], base.Content[0])
+			note := carryHubLink(sc.Content[0], base.Content[0], tc.baseHub)
 			out, err := yaml.Marshal(&sc)
 			if err != nil {
 				t.Fatal(err)
@@ -753,5 +758,48 @@ func TestCarryHubLink(t *testing.T) {
 				t.Errorf("%s: note %q, plan:\n%s\nwant %q", tc.name, note, out, tc.want)
 			}
 		})
+	}
+}
+
+// TestCarryHubLinkMainCrossConnect: the demo plan without its hub key (ADM is the campus's
+// building with role mc, so the hub all the same), swept over hub [ADM, LIB]: the LIB
+// scenario's plan carries the diverse ADM-LIB entry the other way, as it does when the plan
+// names its hub (review 17 F2: it was dropped, and the LIB row priced without that link).
+func TestCarryHubLinkMainCrossConnect(t *testing.T) {
+	t.Parallel()
+	src, err := os.ReadFile("../../testdata/demo/plan.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	campus, err := filepath.Abs("../../testdata/demo/campus.geojson")
+	if err != nil {
+		t.Fatal(err)
+	}
+	body := strings.Replace(strings.Replace(string(src), "hub: ADM\n", "", 1), "campus: [campus.geojson]", "campus: ["+campus+"]", 1)
+	if body == string(src) || strings.Contains(body, "hub: ADM") {
+		t.Fatal("the demo plan no longer has the lines this test edits")
+	}
+	dir := t.TempDir()
+	if err := os.WriteFile(filepath.Join(dir, "plan.yaml"), []byte(body), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	f, err := Parse(filepath.Join(dir, "sweep.yaml"), []byte("base: plan.yaml\nvary: {hub: [ADM, LIB]}\n"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	out := filepath.Join(dir, "out")
+	run(t, f, Options{Out: out, Write: output.WriteOptions{SkipWorkbook: true, SkipGeoPackage: true}})
+	var lib string
+	for _, sc := range f.Scenarios() {
+		if strings.HasPrefix(sc.ID, "lib") {
+			lib = sc.ID
+		}
+	}
+	data, err := os.ReadFile(filepath.Join(out, lib, PlanFile))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(string(data), "{to: ADM, rate: 40G, redundancy: diverse, from: LIB}") {
+		t.Errorf("scenario %s: the diverse ADM-LIB entry is not carried:\n%s", lib, data)
 	}
 }
