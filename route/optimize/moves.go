@@ -171,8 +171,9 @@ func (sv *solver) keepOrRevert(ds []int32, olds []choice, before key) bool {
 
 // closeMoves tries closing each opened proposed edge. A move is abandoned as soon as the
 // users rerouted so far cost more than the edge's FixedCents (and its charges) save and the
-// fixed prices those reroutes paid afresh could give back (see closeSet), and a move that
-// failed is not tried again until one of the edge's users changes route.
+// construction those reroutes built, net of what they gave up, could give back (see
+// closeSet), and a move that failed is not tried again until one of the edge's users changes
+// route.
 func (sv *solver) closeMoves() bool {
 	changed := false
 	for _, e := range sv.proposed {
@@ -264,7 +265,10 @@ func (sv *solver) closeSet(id int32, edges, users []int32, save int64) bool {
 	// dearer: TestWarmBaseOrder). Counting what was built gross (a link leaving its own span
 	// and taking it again counted it) cost up to 1.8 times the CPU at 100-200 buildings
 	// (review 17 F1); counting the charges too (handholes, which nearly every detour pays)
-	// kept every move going to its end. README Performance, 11:50, has the figures.
+	// kept every move going to its end. Since the total counts that construction too, the
+	// test comes to: the reroutes' other costs (cable, labour, charges, further ducts) rose by
+	// more than save. README Performance, "Where it stands (2026-12-05, 11:55)", has the
+	// figures.
 	paid0 := sv.st.paidCents
 	olds := make([]choice, 0, len(users))
 	var done []int32
