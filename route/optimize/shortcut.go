@@ -80,17 +80,23 @@ func (sv *solver) shorten(d int) bool {
 }
 
 // choiceOf is demand d's choice of option o over legs, with their cable and labour cents and
-// reach, as best counts them.
+// reach, as best counts them (legsCost).
 func (sv *solver) choiceOf(d, o int, legs [][]Hop) choice {
-	c := choice{opt: o, legs: legs}
+	vc, mm := sv.legsCost(d, o, legs)
+	return choice{opt: o, legs: legs, varCost: vc, lenMM: mm}
+}
+
+// legsCost is the cable and labour cents (choice.varCost) and the reach in millimetres
+// (choice.lenMM) of option o of demand d over legs.
+func (sv *solver) legsCost(d, o int, legs [][]Hop) (varCost, lenMM int64) {
 	cents := sv.profCent[sv.optProf[d][o]]
 	for _, leg := range legs {
 		for _, h := range leg {
-			c.varCost += cents[h.Edge]
-			c.lenMM += sv.net.lenMM[h.Edge]
+			varCost += cents[h.Edge]
+			lenMM += sv.net.lenMM[h.Edge]
 		}
 	}
-	return c
+	return varCost, lenMM
 }
 
 // tryChoice puts choice c in place of demand d's and keeps it if the plan is cheaper.

@@ -785,14 +785,7 @@ func (sv *solver) bestBelow(d int, below int64) choice {
 	var bestLegs [2][]Hop // the legs of bestCh, made a slice only for the winner
 	nLegs := 0
 	consider := func(o int, legs [2][]Hop, n int, w int64) {
-		var vc, mm int64
-		cents := sv.profCent[sv.optProf[d][o]]
-		for _, leg := range legs[:n] {
-			for _, h := range leg {
-				vc += cents[h.Edge]
-				mm += sv.net.lenMM[h.Edge]
-			}
-		}
+		vc, mm := sv.legsCost(d, o, legs[:n])
 		c := cand{obj: w + sv.optionCents(d, o, n), lenMM: mm, opt: o}
 		if sv.length {
 			// The length objective routes by metres but chooses the cheapest medium.

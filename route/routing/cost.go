@@ -870,14 +870,7 @@ func (m *Model) addOption(s *site.Site, dm *optimize.Demand, info *demandInfo, m
 			price := l.price
 			// The inside cable in the buildings of the transition's ends instead of the
 			// outside-plant cable there (media.Engine's cost).
-			insideM := 0.0
-			if lay.At.Has(media.EndA) {
-				insideM += facts.InsideAM
-			}
-			if lay.At.Has(media.EndB) {
-				insideM += facts.InsideBM
-			}
-			insideM = items.Wasted(d, insideM)
+			insideM := items.Wasted(d, layingInsideM(lay, facts))
 			// The transition ends' items besides cable (media.TransitionEnds: enclosures and
 			// trays, splicing, the inside cable ends' preparation, the enclosures'
 			// installation and the bid items per cable end), priced by the engine as the bill
@@ -990,12 +983,35 @@ func (m *Model) reachM(s *site.Site, medium string, lay media.Laying, rate, futu
 // transition's ends (insideM), whose pieces are cut from other reels (review 14 F3: a leg that
 // closes with the joins its outside cable takes was refused on the joins of its whole channel).
 func (m *Model) reachWithJoinsM(s *site.Site, medium string, lay media.Laying, rate, future float64, facts media.Link) float64 {
+	at, upM, insideM := m.joinBands(s, medium, lay, rate, future, facts)
+	r0 := at(0)
+	if r0 <= upM(0) {
+		return r0 // one reel (or no reel limit) carries it
+	}
+	_, reelsAt := reels(m.design, r0-insideM)
+	n, rn := firstBand(at, upM, reelsAt-1) // R(n) ≤ R(0) ≤ upM(n) at the joins of a channel R(0) long
+	return max(rn, upM(n-1))
+}
+
+// joinBands are reachWithJoinsM's two sides: at(n), the longest channel the medium reaches on
+// the laying with n joins more (their splices and splicing slack; the engine's answer, shared
+// by a sweep's price books), and upM(n), the longest channel n joins allow the reels to carry
+// (with the laying's inside metres, insideM, which other reels give).
+func (m *Model) joinBands(s *site.Site, medium string, lay media.Laying, rate, future float64, facts media.Link) (at, upM func(int) float64, insideM float64) {
 	base, slackM := facts.Splices, facts.SlackM
-	at := func(n int) float64 {
+	at = func(n int) float64 {
 		joinsM := spliceSlackM(m.design, n)
 		facts.Splices, facts.SlackM = base+n, slackM+joinsM
-		return s.Reaches.MaxChannelMAs(m.eng, medium, lay, rate, future, facts) - joinsM // shared by a sweep's price books
+		return s.Reaches.MaxChannelMAs(m.eng, medium, lay, rate, future, facts) - joinsM
 	}
+	insideM = layingInsideM(lay, facts)
+	upM = func(n int) float64 { return joinsUpToM(m.design, n) + insideM }
+	return at, upM, insideM
+}
+
+// layingInsideM is the leg's cable inside the buildings at the laying's transition ends
+// (facts.InsideAM, InsideBM), which the laying buys as inside cable: 0 without a transition.
+func layingInsideM(lay media.Laying, facts media.Link) float64 {
 	insideM := 0.0
 	if lay.Inside != "" {
 		if lay.At.Has(media.EndA) {
@@ -1005,14 +1021,7 @@ func (m *Model) reachWithJoinsM(s *site.Site, medium string, lay media.Laying, r
 			insideM += facts.InsideBM
 		}
 	}
-	upM := func(n int) float64 { return joinsUpToM(m.design, n) + insideM }
-	r0 := at(0)
-	if r0 <= upM(0) {
-		return r0 // one reel (or no reel limit) carries it
-	}
-	_, reelsAt := reels(m.design, r0-insideM)
-	n, rn := firstBand(at, upM, reelsAt-1) // R(n) ≤ R(0) ≤ upM(n) at the joins of a channel R(0) long
-	return max(rn, upM(n-1))
+	return insideM
 }
 
 // firstBand is the first count of joins n in 1..last whose channel with n joins more, at(n),

@@ -98,23 +98,9 @@ func TestReachSearchOnEngine(t *testing.T) {
 
 // countDownReachM is reachWithJoinsM as it was before review 15 F5: counting down from the
 // joins of a channel the reach without joins long, one count at a time.
+// Its two sides are reachWithJoinsM's own (joinBands): only the search differs.
 func countDownReachM(m *Model, s *site.Site, medium string, lay media.Laying, rate float64, facts media.Link) float64 {
-	base, slackM := facts.Splices, facts.SlackM
-	at := func(n int) float64 {
-		joinsM := spliceSlackM(m.design, n)
-		facts.Splices, facts.SlackM = base+n, slackM+joinsM
-		return s.Reaches.MaxChannelMAs(m.eng, medium, lay, rate, 0, facts) - joinsM
-	}
-	insideM := 0.0
-	if lay.Inside != "" {
-		if lay.At.Has(media.EndA) {
-			insideM += facts.InsideAM
-		}
-		if lay.At.Has(media.EndB) {
-			insideM += facts.InsideBM
-		}
-	}
-	upM := func(n int) float64 { return joinsUpToM(m.design, n) + insideM }
+	at, upM, insideM := m.joinBands(s, medium, lay, rate, 0, facts)
 	r0 := at(0)
 	if r0 <= upM(0) {
 		return r0

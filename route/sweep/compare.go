@@ -232,6 +232,24 @@ func intCol(csvName, human string, get func(*Row) int) column {
 		}, nil}
 }
 
+// optIntCol is intCol for a count a rows file may lack (nil: written before it was kept),
+// blank then.
+func optIntCol(csvName, human string, get func(*Row) *int) column {
+	return column{csvName, human, "",
+		func(j judged) string {
+			if !planned(j) || get(j.Row) == nil {
+				return ""
+			}
+			return strconv.Itoa(*get(j.Row))
+		},
+		func(j judged) workbook.Cell {
+			if !planned(j) || get(j.Row) == nil {
+				return workbook.Blank()
+			}
+			return workbook.Int(int64(*get(j.Row)))
+		}, nil}
+}
+
 func textCol(csvName, human string, get func(judged) string) column {
 	return column{csvName, human, "", get, func(j judged) workbook.Cell {
 		if s := get(j); s != "" {
@@ -266,19 +284,7 @@ var fixedColumns = []column{
 		}, nil},
 	trenchColumn, // replaced by the run's units (columnsIn)
 	intCol("diverse_links", "diverse links", func(r *Row) int { return r.DiverseLinks }),
-	{"diverse_single_point", "diverse links sharing a single point of failure", "",
-		func(j judged) string {
-			if !planned(j) || j.DiverseSinglePoint == nil {
-				return ""
-			}
-			return strconv.Itoa(*j.DiverseSinglePoint)
-		},
-		func(j judged) workbook.Cell {
-			if !planned(j) || j.DiverseSinglePoint == nil {
-				return workbook.Blank()
-			}
-			return workbook.Int(int64(*j.DiverseSinglePoint))
-		}, nil},
+	optIntCol("diverse_single_point", "diverse links sharing a single point of failure", func(r *Row) *int { return r.DiverseSinglePoint }),
 	intCol("diverse_missing", "links lacking a diverse route", func(r *Row) int { return r.DiverseMissing }),
 	textCol("media_mix", "media (legs per medium)", func(j judged) string { return j.MediaMix }),
 	{"cost_rank", "rank by cost", "",
@@ -342,19 +348,7 @@ var fixedColumns = []column{
 		}
 		return j.StartedFrom
 	}),
-	{"handholes_to_build", "handholes to build", "",
-		func(j judged) string {
-			if !planned(j) || j.HandholesToBuild == nil {
-				return ""
-			}
-			return strconv.Itoa(*j.HandholesToBuild)
-		},
-		func(j judged) workbook.Cell {
-			if !planned(j) || j.HandholesToBuild == nil {
-				return workbook.Blank()
-			}
-			return workbook.Int(int64(*j.HandholesToBuild))
-		}, nil},
+	optIntCol("handholes_to_build", "handholes to build", func(r *Row) *int { return r.HandholesToBuild }),
 	categoryCol(media.CategoryMaterial),
 	categoryCol(media.CategoryLabour),
 	categoryCol(media.CategoryConstruction),
