@@ -1076,6 +1076,9 @@ func (sv *solver) improve() int {
 		if moves && !changed && !sv.stopped() && !sv.gapClosed() && sv.swapMoves() {
 			changed = true
 		}
+		if !changed && !sv.stopped() && !sv.gapClosed() && sv.ejectMoves() {
+			changed = true
+		}
 		if !changed || sv.optima[sv.st.planH] || sv.gapClosed() {
 			break // a local optimum, or one the perturbation phase has reached before (kicks)
 		}

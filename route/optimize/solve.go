@@ -37,7 +37,10 @@ import (
 //     it); drop a paid charge (forbid its edges, reroute its users, keep if cheaper); replace a
 //     stretch of a single-leg route between two nodes one edge joins by that edge (shortcut.go:
 //     the searches price a charge on each edge of its set, so a route may go round a block to
-//     avoid paying one twice). Open moves are
+//     avoid paying one twice); at a local optimum, give a full duct run's room to a demand whose
+//     cheapest route with the runs' room aside is cheaper than its own (eject.go: a cable in
+//     those runs rerouted with them forbidden, the demand rerouted into the room, kept if
+//     cheaper). Open moves are
 //     screened first by bounds and by an in-place estimate, and a failed move is not retried
 //     until a demand it involves changes route. A reroute is skipped when its memo shows that
 //     no edge its last searches read has become cheaper (memo.go): it would change nothing.
@@ -138,6 +141,9 @@ type solver struct {
 	failedOpen  map[string]uint64   // candidate → signature of its demands when opening failed
 	failedSwap  map[[2]int32]uint64 // (opened span, span) → signature of its demands when the swap failed
 	swapWork    int                 // reroutes swapMoves made
+	failedEject map[[2]int32]uint64 // (victim, demand wanting room) → their signature when the eject move failed
+	ejectWork   int                 // searches and reroutes the current ejectMoves call made
+	ignoreRoom  bool                // weightFor leaves the limited edges' duct room aside (wantedRoom)
 	lenTrees    []*tree             // slot × exclusion classes + class
 	comps       map[uint64][]int    // excluded flags → component label per node (for reasons)
 
@@ -277,7 +283,7 @@ func newSolver(p *Problem, opt Settings) *solver {
 		lenClass: map[uint64]int{}, fixedE: make([]int64, ne), limited: make([]bool, ne), tracked: make([]bool, ne),
 		ductCent: make([]int64, ne), trenchCent: make([]int64, ne), groups: map[int][]int32{},
 		propIdx: make([]int32, ne), comps: map[uint64][]int{}, anchorSlot: make([]int32, max(p.Nodes, 0)),
-		failedClose: map[int32]uint64{}, failedOpen: map[string]uint64{}, failedSwap: map[[2]int32]uint64{}, estMemo: map[estKey]estRec{},
+		failedClose: map[int32]uint64{}, failedOpen: map[string]uint64{}, failedSwap: map[[2]int32]uint64{}, failedEject: map[[2]int32]uint64{}, estMemo: map[estKey]estRec{},
 		cap:    capacity{edges: p.Edges, fits: p.Fits},
 		forbid: make([]bool, ne), phantom: make([]bool, ne), trenchFree: make([]bool, ne), blk: make([]uint32, ne),
 		srch: newSearch[int64](net), rc: newRCSPScratch(net), ps: newPairScratch(net),
@@ -615,7 +621,7 @@ func (sv *solver) weightFor(d, o int) func(e int32) (int64, bool) {
 		if k&kindCharged != 0 && !sv.chFree {
 			b += sv.chargeCents(e)
 		}
-		if k&kindLimited != 0 {
+		if k&kindLimited != 0 && !sv.ignoreRoom {
 			pen, ok := sv.penalty(d, o, e, area)
 			if !ok {
 				return 0, false
