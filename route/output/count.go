@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"strings"
 
+	"spanwright/media/install"
 	"spanwright/route/estimate"
 )
 
@@ -17,7 +18,12 @@ func CountText(c estimate.CountWork, perDuct int, length func(m float64) string,
 	if perDuct <= 0 {
 		return "count of pulls: none (design.cables_per_duct 0): ducts are packed by the NFPA 70 Chapter 9 Table 1 fill and the jam band alone"
 	}
-	rule := fmt.Sprintf("count of pulls: at most %s a duct, one pull each (design.cables_per_duct; common practice, no published source)", Counted(perDuct, "loose cable", "loose cables"))
+	// The default is common practice, no published source; another count is the plan's own.
+	source := "design.cables_per_duct"
+	if perDuct == install.DefaultCablesPerDuct {
+		source += "; common practice, no published source"
+	}
+	rule := fmt.Sprintf("count of pulls: at most %s a duct, one pull each (%s)", Counted(perDuct, "loose cable", "loose cables"), source)
 	if c.DuctM <= 0 && c.TrenchM <= 0 && c.Cents <= 0 {
 		return rule + ": it lays nothing that the fill alone would not on these routes"
 	}

@@ -971,7 +971,11 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 		if sc := s.BudgetScope(); sc != "" {
 			scope = " " + sc
 		}
-		fmt.Fprintf(w, "budget %s %s: %s by %s (%.1f %%)%s\n", media.FormatCents(*s.BudgetCents), t(b.Currency), word, media.FormatCents(over), math.Abs(*s.OverBudgetPct), scope)
+		if s.NoLegPriced() {
+			fmt.Fprintf(w, "budget %s %s: %s\n", media.FormatCents(*s.BudgetCents), t(b.Currency), s.BudgetScope())
+		} else {
+			fmt.Fprintf(w, "budget %s %s: %s by %s (%.1f %%)%s\n", media.FormatCents(*s.BudgetCents), t(b.Currency), word, media.FormatCents(over), math.Abs(*s.OverBudgetPct), scope)
+		}
 	}
 	if line := cautionLine(r, true); line != "" {
 		fmt.Fprintln(w, line)
@@ -1079,16 +1083,31 @@ func (s Summary) PricedNote() string {
 // (BudgetFeasibleOnly): "for the 21 feasible legs of 31 only; 10 legs unpriced", since the
 // total it compares prices those legs alone and serving the others costs more; "" otherwise.
 // The terminal, the report and bom.xlsx's budget rows print it after the verdict (tester 12
-// F4: "under by 56.4 %" for a plan leaving 10 of 31 legs unserved).
+// F4: "under by 56.4 %" for a plan leaving 10 of 31 legs unserved); with every leg infeasible
+// (NoLegPriced) it is no verdict but says so, "no verdict: no leg is priced (all 31 legs
+// infeasible)", and they print it in the verdict's place.
 func (s Summary) BudgetScope() string {
 	if !s.BudgetFeasibleOnly {
 		return ""
 	}
-	if s.Infeasible == s.Legs {
-		return fmt.Sprintf("with no leg priced; %s unpriced", Counted(s.Legs, "leg", "legs"))
+	if s.NoLegPriced() {
+		return fmt.Sprintf("no verdict: no leg is priced (%s infeasible)", allLegs(s.Legs))
 	}
 	return fmt.Sprintf("for the %s of %d only; %s unpriced", Counted(s.Legs-s.Infeasible, "feasible leg", "feasible legs"), s.Legs,
 		Counted(s.Infeasible, "infeasible leg", "infeasible legs"))
+}
+
+// NoLegPriced reports whether the plan has a budget and every leg infeasible: its total
+// prices no leg, so the budget check gives no verdict (BudgetScope says so instead of "under
+// by 99.6 %": review 17 F8).
+func (s Summary) NoLegPriced() bool { return s.BudgetFeasibleOnly && s.Infeasible == s.Legs }
+
+// allLegs is "the leg" or "all 31 legs".
+func allLegs(n int) string {
+	if n == 1 {
+		return "the leg"
+	}
+	return fmt.Sprintf("all %d legs", n)
 }
 
 // NoNewTrenchNote says what a plan with design.allow_new_trench: false still builds, from
@@ -1133,7 +1152,7 @@ func NoNewTrenchNote(s Summary) string {
 	}
 	turns := ""
 	if s.TurnHandholes > 0 {
-		turns = " (design.turn_handholes: false keeps routes to existing structures)"
+		turns = " (design.turn_handholes: false keeps routes to existing structures, which may leave legs without a route)"
 	}
 	return fmt.Sprintf("%s; %s still dug into existing pathways (%s): a cable changes duct bank only in a structure%s%s",
 		note, Counted(s.HandholesToBuild, "handhole is", "handholes are"), strings.Join(why, ", "), turns, splices)

@@ -219,6 +219,7 @@ type planView struct {
 	Over         string
 	OverPct      string
 	BudgetScope  string // output.Summary.BudgetScope: the check covers the feasible legs only
+	NoVerdict    bool   // output.Summary.NoLegPriced: BudgetScope in the verdict's place
 	IsOver       bool
 	HasBudget    bool
 	BudgetBar    struct{ TotalW, BudgetX, Class, LabelX, Anchor, BudgetAnchor string }
@@ -471,7 +472,7 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 		}
 		v.Over = money(over)
 		v.OverPct = strconv.FormatFloat(abs(*s.OverBudgetPct), 'f', 1, 64) + " %"
-		v.BudgetScope = s.BudgetScope()
+		v.BudgetScope, v.NoVerdict = s.BudgetScope(), s.NoLegPriced()
 		top := max(s.TotalCents, budget)
 		const full = 560.0
 		v.BudgetBar.TotalW = num(full * float64(s.TotalCents) / float64(top))

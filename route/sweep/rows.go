@@ -40,7 +40,12 @@ type Row struct {
 	TotalCents      int64  `json:"total_cents"`
 	BudgetCents     *int64 `json:"budget_cents"`      // nil (null): the plan sets no budget
 	OverBudgetCents *int64 `json:"over_budget_cents"` // total minus budget; nil without a budget
-	InfeasibleLegs  int    `json:"infeasible_legs"`
+	// BudgetFeasibleOnly says the budget check covers the feasible legs only: the plan has a
+	// budget and infeasible legs, which its total does not price
+	// (output.Summary.BudgetFeasibleOnly); absent otherwise, and in a rows file written before
+	// it was kept. The comparison says so beside over_budget (review 17 F3).
+	BudgetFeasibleOnly bool `json:"budget_feasible_legs_only,omitempty"`
+	InfeasibleLegs     int  `json:"infeasible_legs"`
 	// Unserved names the infeasible legs, "link/leg" in leg order
 	// (output.Summary.InfeasibleNames); absent when every leg is feasible, and in a rows
 	// file written before it was kept, whose infeasible scenarios are then not ranked. The
@@ -110,6 +115,7 @@ func newRow(sc Scenario) Row {
 func (r *Row) fill(s output.Summary) {
 	r.Currency = s.Currency
 	r.TotalCents, r.BudgetCents, r.OverBudgetCents = s.TotalCents, s.BudgetCents, s.OverBudgetCents
+	r.BudgetFeasibleOnly = s.BudgetFeasibleOnly
 	r.InfeasibleLegs = s.Infeasible
 	r.Unserved = slices.Clone(s.InfeasibleNames)
 	r.WorstMarginDB = s.WorstMarginDB
