@@ -22,8 +22,10 @@ type Result struct {
 	Site  *site.Site
 	Hub   string
 	Links []site.Link
-	// Notes say what of the plan's entries was left out, and why: a link entry for a
-	// building that is this plan's hub (as a sweep's scenario over the hub makes it).
+	// Notes are the plan's own notes (plan.Plan.Notes: what a sweep changed in a scenario's
+	// plan, such as a link entry carried to another hub), then what of the plan's entries was
+	// left out, and why: a link entry for a building that is this plan's hub (as a sweep's
+	// scenario over the hub makes it); then a warm start's notes.
 	Notes    []string
 	Legs     []routing.Leg // the legs of every link in link order; each points into Links
 	Warnings []string
@@ -284,6 +286,7 @@ func prepare(s *site.Site, p *plan.Plan, eng *media.Engine) (prepared, error) {
 	} else {
 		links, notes, errs = s.Links(p, hub)
 	}
+	notes = append(slices.Clone(p.Notes), notes...) // the plan's own first (plan.Plan.Notes)
 	var warnings []string
 	if err == nil {
 		var unjoined []error

@@ -559,7 +559,8 @@ type Summary struct {
 	// duct fill, bends) and budget.
 	WarningCounts map[string]int `json:"warning_counts"`
 	Warnings      []string       `json:"warnings"`
-	// Notes say what of the plan's entries was left out, and why (route.Result.Notes).
+	// Notes are the plan's own notes and what of its entries was left out, and why
+	// (route.Result.Notes).
 	Notes []string `json:"notes,omitempty"`
 	// NotPriced lists the keys of the prices the book leaves out that the bill needs
 	// (media.BOM.NotPricedKeys): their lines have a quantity and no price, and the total

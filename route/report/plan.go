@@ -263,8 +263,9 @@ type planView struct {
 	// prints it); Bound is "" without a bound.
 	Objective, Bound, Gap string
 	Warnings              []string
-	// Notes are the plan's notes (route.Result.Notes: a links entry dropped for the hub, a
-	// warm start's routes placed afresh), and StartedFrom the plan folder its search began
+	// Notes are the plan's notes (route.Result.Notes: the plan's own, such as a link entry a
+	// sweep carried to another hub, a links entry dropped for the hub, a warm start's routes
+	// placed afresh), and StartedFrom the plan folder its search began
 	// from (route.Result.StartedFrom), "" for a plan from scratch: the owner's document says
 	// what the terminal and summary.json say (tester 12's finding 13).
 	Notes       []string
