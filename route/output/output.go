@@ -1273,6 +1273,10 @@ func CannotServe(rep site.CheckReport) []string {
 		out = append(out, fmt.Sprintf("%s no second route, as plan would find, listed above",
 			Counted(len(rep.NoDiverse), "diverse link has", "diverse links have")))
 	}
+	if len(rep.TurnsOnly) > 0 {
+		out = append(out, fmt.Sprintf("%s no route without a turn at a junction without a structure (design.turn_handholes: false), listed above",
+			Counted(len(rep.TurnsOnly), "link has", "links have")))
+	}
 	return out
 }
 
@@ -1340,6 +1344,13 @@ func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
 	if len(r.NoDiverse) > 0 {
 		fmt.Fprintf(w, "diverse     %s no second route, however planned:\n", Counted(len(r.NoDiverse), "diverse link has", "diverse links have"))
 		for _, why := range r.NoDiverse {
+			fmt.Fprintf(w, "  %s\n", t(InUnits(opt, why)))
+		}
+	}
+	if len(r.TurnsOnly) > 0 {
+		fmt.Fprintf(w, "turns only  %s no route that keeps to existing structures where it changes pathway (design.turn_handholes: false), as plan would find:\n",
+			Counted(len(r.TurnsOnly), "link has", "links have"))
+		for _, why := range r.TurnsOnly {
 			fmt.Fprintf(w, "  %s\n", t(InUnits(opt, why)))
 		}
 	}
