@@ -503,6 +503,9 @@ type Summary struct {
 	CountLaidDuctM   float64 `json:"count_laid_duct_m"`
 	CountLaidTrenchM float64 `json:"count_laid_trench_m"`
 	CountLaidCents   int64   `json:"count_laid_cents"`
+	// CountLaidSpans are the ids of the spans where that work is laid (CountSpans); absent
+	// when none.
+	CountLaidSpans []string `json:"count_laid_spans,omitempty"`
 	// WorstMarginDB is the smallest loss margin of any feasible fibre leg; null when none.
 	WorstMarginDB *float64       `json:"worst_margin_db"`
 	MediaMix      map[string]int `json:"media_mix"` // feasible legs per medium
@@ -715,6 +718,7 @@ func Summarize(r *route.Result) Summary {
 		s.AddedDuctM = round1(r.Estimate.Construction.AddedDuctM)
 		fc := r.Estimate.Construction.ForCount
 		s.CountLaidDuctM, s.CountLaidTrenchM, s.CountLaidCents = round1(fc.DuctM), round1(fc.TrenchM), fc.Cents
+		s.CountLaidSpans = CountSpans(fc)
 	}
 	s.ObjectiveCents = r.ObjectiveCents
 	s.LowerBoundCents, s.GapPct = BoundGap(r.ObjectiveCents, r.LowerBoundCents)
@@ -948,7 +952,7 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 		fmt.Fprintln(w, line)
 	}
 	if fc := c.ForCount; s.CablesPerDuct > 0 && (fc.DuctM > 0 || fc.TrenchM > 0 || fc.Cents > 0) {
-		fmt.Fprintln(w, CountText(fc, s.CablesPerDuct, length, func(c int64) string { return media.FormatCents(c) + " " + t(e.BOM.Currency) }))
+		fmt.Fprintln(w, t(CountText(fc, s.CablesPerDuct, length, func(c int64) string { return media.FormatCents(c) + " " + e.BOM.Currency })))
 	}
 	b := e.BOM
 	var cats []string
