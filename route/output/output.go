@@ -437,6 +437,12 @@ func passageText(l *routing.Leg, tr travel) []string {
 // null for budget_cents, over_budget_cents and over_budget_pct when the plan has no budget;
 // the files before it have no format member (lower_bound, gap as a fraction, a budget of 0
 // for none). A resumed sweep plans again a scenario whose summary.json is of another format.
+// A member added keeps the format (DEVELOPERS.md: renaming a member or changing what one
+// means bumps it): a file of format 2 written before the member was added lacks it and reads
+// as its zero value (a reader that must tell "not kept" from zero keeps it as a pointer or nil
+// slice, as sweep.Row does for the comparison's blank cells). So are the members added after
+// format 2: cautions, planning_aid, splice_points_to_build, cables_per_duct, count_laid_*,
+// budget_feasible_legs_only, no_new_trench.
 const SummaryFormat = "spanwright summary 2"
 
 // Summary is the machine-readable digest of a planned scenario (summary.json).
