@@ -22,8 +22,10 @@ type Result struct {
 	Site  *site.Site
 	Hub   string
 	Links []site.Link
-	// Notes say what of the plan's entries was left out, and why: a link entry for a
-	// building that is this plan's hub (as a sweep's scenario over the hub makes it).
+	// Notes are the plan's own notes (plan.Plan.Notes: what a sweep changed in a scenario's
+	// plan, such as a link entry carried to another hub), then what of the plan's entries was
+	// left out, and why: a link entry for a building that is this plan's hub (as a sweep's
+	// scenario over the hub makes it); then a warm start's notes.
 	Notes    []string
 	Legs     []routing.Leg // the legs of every link in link order; each points into Links
 	Warnings []string
@@ -206,7 +208,8 @@ func Check(s *site.Site, p *plan.Plan, eng *media.Engine) error {
 // buildings reached only through another, those its links meet (Site.ThroughFor: one
 // served from an ic it reaches directly is fine); with allow_new_trench false, the buildings
 // reached only over proposed pathways; and the diverse links that can have no second route
-// (NoDiverse); and the warning plan gives when its hub overrides the campus's mc
+// (NoDiverse); with turn_handholes false, the links only routes turning where no structure
+// stands join (TurnsOnly); and the warning plan gives when its hub overrides the campus's mc
 // (site.HubOverride). It returns the problems plan would reject p for (Check), with or
 // without a hub.
 func CheckPlan(s *site.Site, p *plan.Plan, rep *site.CheckReport) error {
@@ -226,7 +229,9 @@ func CheckPlan(s *site.Site, p *plan.Plan, rep *site.CheckReport) error {
 	switch {
 	case err != nil:
 	case rep.Hub != "":
-		rep.NoDiverse, err = NoDiverse(s, p, eng)
+		if rep.NoDiverse, err = NoDiverse(s, p, eng); err == nil {
+			rep.TurnsOnly, err = TurnsOnly(s, p, eng)
+		}
 	default:
 		err = Check(s, p, eng) // no hub: its problem is among plan's
 	}
@@ -258,6 +263,33 @@ func NoDiverse(s *site.Site, p *plan.Plan, eng *media.Engine) ([]string, error) 
 	return out, nil
 }
 
+// TurnsOnly lists, given design.turn_handholes: false, the links whose ends only routes that
+// change pathway at a junction without a structure join (routing.TurnsOnly, from the problem
+// plan routes on), one line each, in link order: the building the link serves, the link and
+// the reason, "building B, L: every route between A and B turns …". Plan then finishes with
+// those legs infeasible (ErrInfeasible); check says so beforehand. Nil with the setting on; it
+// returns Check's error when the plan has a problem Check finds.
+func TurnsOnly(s *site.Site, p *plan.Plan, eng *media.Engine) ([]string, error) {
+	if p.Design.TurnHandholes {
+		return nil, nil
+	}
+	prep, err := prepare(s, p, eng)
+	if err != nil {
+		return nil, err
+	}
+	why, err := routing.TurnsOnly(s, prep.model, prep.links)
+	if err != nil {
+		return nil, err
+	}
+	var out []string
+	for i, l := range prep.links {
+		if r, ok := why[i]; ok {
+			out = append(out, fmt.Sprintf("building %s, %s: %s", l.To, l.ID, r))
+		}
+	}
+	return out, nil
+}
+
 // prepared is a plan resolved on a site, ready to route.
 type prepared struct {
 	hub   string
@@ -284,6 +316,7 @@ func prepare(s *site.Site, p *plan.Plan, eng *media.Engine) (prepared, error) {
 	} else {
 		links, notes, errs = s.Links(p, hub)
 	}
+	notes = append(slices.Clone(p.Notes), notes...) // the plan's own first (plan.Plan.Notes)
 	var warnings []string
 	if err == nil {
 		var unjoined []error

@@ -58,7 +58,7 @@ func TestMessageShapes(t *testing.T) {
 		{"plan not YAML", plan("campus: ["), "plan.yaml:1: not YAML: did not find expected node content"},
 		{"plan not a mapping", plan("- a\n"), "plan.yaml:1:1: want a mapping, got a list"},
 		{"plan unknown key", plan("campus: [c]\nbudgit: 3\n"),
-			"plan.yaml:2:1: budgit: unknown key; did you mean budget? want one of budget, campus, campus_database, catalog, defaults, design, hub, links, name, prices, rules"},
+			"plan.yaml:2:1: budgit: unknown key; did you mean budget? want one of budget, campus, campus_database, catalog, defaults, design, hub, links, name, notes, prices, rules"},
 		{"plan wrong type in a section", plan("campus: [c]\ndesign:\n  loss_margin_db: lots\n"),
 			`plan.yaml:3:19: design.loss_margin_db: want a number, got "lots"`},
 		{"plan number out of range in a link", plan("campus: [c]\nlinks:\n  - {to: A, strands: 20000}\n"),

@@ -430,7 +430,11 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 	moneyRow("over (+) or under (-) budget", fmt.Sprintf("IF(%s>0,%s-%s,0)", bud, tot, bud), overCents)
 	sum.Append(workbook.Text("over (+) or under (-) budget"), workbook.Formula(fmt.Sprintf("IF(%s>0,ROUND(100*(%s-%s)/%s,1),0)", bud, tot, bud, bud), overPct, 1), workbook.Text("%"))
 	if scope := s.BudgetScope(); scope != "" {
-		text(rowNote, "the budget check "+scope)
+		if s.NoLegPriced() {
+			text(rowNote, "the budget check: "+scope)
+		} else {
+			text(rowNote, "the budget check "+scope)
+		}
 	}
 	sum.Append(workbook.Text("model cost (legs, no markups)"), workbook.Cents(s.ModelCents), workbook.Text(cur))
 	num("warnings", float64(s.WarningCount), 0, "")

@@ -79,3 +79,50 @@ func TestBudgetScopeInfeasible(t *testing.T) {
 		t.Errorf("all feasible: %d infeasible, flag %v, scope %q", s.Infeasible, s.BudgetFeasibleOnly, s.BudgetScope())
 	}
 }
+
+// TestBudgetNoLegPriced: with every leg infeasible the total prices no leg, so the budget check
+// gives no verdict and says why, in the terminal, the report and bom.xlsx, instead of "under by
+// 99.6 %" (review 17 F8). Three buildings behind a duct with no spare and no new trench.
+func TestBudgetNoLegPriced(t *testing.T) {
+	t.Parallel()
+	r, err := testplan.PullSolveJSON(t, testsite.FanN(100, 0, 3, false), func(p *plan.Plan) {
+		p.Design.AllowNewTrench = false
+		p.Budget = 10_000_000_00
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	s := Summarize(r)
+	if s.Infeasible != s.Legs || s.Legs == 0 {
+		t.Fatalf("%d of %d legs infeasible; the test wants all", s.Infeasible, s.Legs)
+	}
+	want := "no verdict: no leg is priced (all 3 legs infeasible)"
+	if !s.NoLegPriced() || s.BudgetScope() != want {
+		t.Fatalf("no leg priced %v, scope %q; want true, %q", s.NoLegPriced(), s.BudgetScope(), want)
+	}
+	var term bytes.Buffer
+	if err := PrintSummary(&term, r, WriteOptions{}); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(term.String(), ": "+want+"\n") || strings.Contains(term.String(), "under by") {
+		t.Errorf("terminal budget line gives a verdict or lacks %q:\n%s", want, term.String())
+	}
+	files, err := Files(context.Background(), r, WriteOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	xl, err := workbook.Open(testplan.FileOf(t, files, "bom.xlsx"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer xl.Close()
+	rows, err := xl.Rows("summary")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !slices.ContainsFunc(rows, func(row []string) bool {
+		return len(row) > 1 && row[0] == rowNote && row[1] == "the budget check: "+want
+	}) {
+		t.Errorf("bom.xlsx summary sheet has no note that the check gives no verdict: %q", rows)
+	}
+}

@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"strings"
 
+	"spanwright/geo/input"
+	"spanwright/media/install"
 	"spanwright/route/estimate"
 )
 
@@ -17,7 +19,12 @@ func CountText(c estimate.CountWork, perDuct int, length func(m float64) string,
 	if perDuct <= 0 {
 		return "count of pulls: none (design.cables_per_duct 0): ducts are packed by the NFPA 70 Chapter 9 Table 1 fill and the jam band alone"
 	}
-	rule := fmt.Sprintf("count of pulls: at most %s a duct, one pull each (design.cables_per_duct; common practice, no published source)", Counted(perDuct, "loose cable", "loose cables"))
+	// The default is common practice, no published source; another count is the plan's own.
+	source := "design.cables_per_duct"
+	if perDuct == install.DefaultCablesPerDuct {
+		source += "; common practice, no published source"
+	}
+	rule := fmt.Sprintf("count of pulls: at most %s a duct, one pull each (%s)", Counted(perDuct, "loose cable", "loose cables"), source)
 	if c.DuctM <= 0 && c.TrenchM <= 0 && c.Cents <= 0 {
 		return rule + ": it lays nothing that the fill alone would not on these routes"
 	}
@@ -28,6 +35,36 @@ func CountText(c estimate.CountWork, perDuct int, length func(m float64) string,
 	if c.DuctM > 0 {
 		laid = append(laid, length(c.DuctM)+" of duct")
 	}
-	return fmt.Sprintf("%s: %s laid only for it, %s as the optimizer prices them, which the fill alone (NFPA 70 Chapter 9 Table 1 and the jam band) would not need on these routes; without the count the optimizer might route otherwise (design.cables_per_duct 0 plans so)",
-		rule, strings.Join(laid, " and "), money(c.Cents))
+	return fmt.Sprintf("%s: %s laid only for it%s, %s as the optimizer prices them, which the fill alone (NFPA 70 Chapter 9 Table 1 and the jam band) would not need on these routes; without the count the optimizer might route otherwise (design.cables_per_duct 0 plans so)",
+		rule, strings.Join(laid, " and "), countSpansText(c), money(c.Cents))
+}
+
+// maxCountSpans is the most spans CountText names; the rest are counted.
+const maxCountSpans = 10
+
+// countSpansText names where the count lays its work (estimate.CountWork.Spans), " (span
+// EA-3/1)" or " (2 spans: EA-3/1, S-TWR-E)", at most maxCountSpans of them then "and N more";
+// "" when none is listed. Where to dig is what the owner weighs the count against, and what a
+// bidder prices (review 17 F5: the figures said how much, never where).
+func countSpansText(c estimate.CountWork) string {
+	ids := CountSpans(c)
+	switch len(ids) {
+	case 0:
+		return ""
+	case 1:
+		return " (span " + ids[0] + ")"
+	}
+	shown, more := input.Shown(ids, maxCountSpans)
+	return fmt.Sprintf(" (%d spans: %s%s)", len(ids), strings.Join(shown, ", "), more)
+}
+
+// CountSpans lists the ids of the spans where the count of pulls lays duct, trench or bore
+// (estimate.CountWork.Spans), in their order: summary.json's count_laid_spans and the spans
+// CountText names.
+func CountSpans(c estimate.CountWork) []string {
+	var ids []string
+	for _, sp := range c.Spans {
+		ids = append(ids, sp.Span)
+	}
+	return ids
 }

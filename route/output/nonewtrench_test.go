@@ -23,17 +23,17 @@ func TestNoNewTrenchNote(t *testing.T) {
 		{Summary{NewTrenchM: 25, HandholesToBuild: 21, TurnHandholes: 20, TapHandholes: 1},
 			"no new trench or bore (design.allow_new_trench: false) but the counted laterals to buildings no pathway reaches; " +
 				"21 handholes are still dug into existing pathways (20 where routes change pathway, 1 where laterals tap a duct or a pole line): " +
-				"a cable changes duct bank only in a structure (design.turn_handholes: false keeps routes to existing structures)"},
+				"a cable changes duct bank only in a structure (design.turn_handholes: false keeps routes to existing structures, which may leave legs without a route)"},
 		{Summary{HandholesToBuild: 1, TurnHandholes: 1},
 			"no new trench or bore (design.allow_new_trench: false); 1 handhole is still dug into existing pathways (1 where routes change pathway): " +
-				"a cable changes duct bank only in a structure (design.turn_handholes: false keeps routes to existing structures)"},
+				"a cable changes duct bank only in a structure (design.turn_handholes: false keeps routes to existing structures, which may leave legs without a route)"},
 		{Summary{}, "no new trench or bore (design.allow_new_trench: false); no handhole is built"},
 		// Splice points between reels are dug too (review 17 F3).
 		{Summary{SplicePointsToBuild: 2}, "no new trench or bore (design.allow_new_trench: false); no handhole at a junction; " +
 			"and 2 splice points to build between reels (a handhole each where underground)"},
 		{Summary{HandholesToBuild: 1, TurnHandholes: 1, SplicePointsToBuild: 1},
 			"no new trench or bore (design.allow_new_trench: false); 1 handhole is still dug into existing pathways (1 where routes change pathway): " +
-				"a cable changes duct bank only in a structure (design.turn_handholes: false keeps routes to existing structures); " +
+				"a cable changes duct bank only in a structure (design.turn_handholes: false keeps routes to existing structures, which may leave legs without a route); " +
 				"and 1 splice point to build between reels (a handhole each where underground)"},
 	} {
 		if got := NoNewTrenchNote(c.s); got != c.want {

@@ -60,6 +60,12 @@ type Plan struct {
 	Catalog        string     `yaml:"catalog"` // optional media catalog file
 	Rules          string     `yaml:"rules"`   // optional rule file
 	Prices         string     `yaml:"prices"`  // optional price book file
+	// Notes are lines of text the plan's outputs carry first among its notes (route.Result
+	// .Notes: summary.json's notes, the terminal's note lines, the report's Notes): what
+	// whoever wrote the plan wants said with it. A sweep writes there what it changed in a
+	// scenario's plan beyond its overrides (a link entry carried to another hub), so that the
+	// scenario's outputs say it, planned by the sweep or alone.
+	Notes []string `yaml:"notes"`
 
 	// MaxInputBytes caps each file the plan reads (campus, catalog, rules, prices), in
 	// bytes; 0 for the defaults (input.DefaultDataMiB MiB for GeoJSON, input.DefaultTextMiB

@@ -65,7 +65,7 @@ func TestParsePlanErrors(t *testing.T) {
 	}{
 		{"not yaml", "campus: [", []string{"plan.yaml:1: not YAML: did not find expected node content"}},
 		{"not a mapping", "- a\n- b\n", []string{"plan.yaml:1:1: want a mapping, got a list"}},
-		{"unknown key", "campus: [c.geojson]\nbudgit: 3\n", []string{"plan.yaml:2:1: budgit: unknown key; did you mean budget? want one of budget, campus, campus_database, catalog, defaults, design, hub, links, name, prices, rules"}},
+		{"unknown key", "campus: [c.geojson]\nbudgit: 3\n", []string{"plan.yaml:2:1: budgit: unknown key; did you mean budget? want one of budget, campus, campus_database, catalog, defaults, design, hub, links, name, notes, prices, rules"}},
 		{"unknown nested key", "campus: [c.geojson]\ndesign: {snap: 2}\n", []string{"plan.yaml:2:10: design.snap: unknown key; did you mean snap_m? want one of allow_new_trench, "}},
 		{"unknown link key", "campus: [c.geojson]\nlinks:\n  - {to: A, speed: 10G}\n", []string{"plan.yaml:3:13: links[0].speed: unknown key; want one of from, future_rate, growth, rate, redundancy, skip, strands, to"}},
 		{"no campus", "name: x\n", []string{"plan.yaml: campus: missing; name at least one campus file (GeoJSON, or GeoPackage .gpkg), or a campus_database"}},

@@ -219,6 +219,7 @@ type planView struct {
 	Over         string
 	OverPct      string
 	BudgetScope  string // output.Summary.BudgetScope: the check covers the feasible legs only
+	NoVerdict    bool   // output.Summary.NoLegPriced: BudgetScope in the verdict's place
 	IsOver       bool
 	HasBudget    bool
 	BudgetBar    struct{ TotalW, BudgetX, Class, LabelX, Anchor, BudgetAnchor string }
@@ -262,8 +263,9 @@ type planView struct {
 	// prints it); Bound is "" without a bound.
 	Objective, Bound, Gap string
 	Warnings              []string
-	// Notes are the plan's notes (route.Result.Notes: a links entry dropped for the hub, a
-	// warm start's routes placed afresh), and StartedFrom the plan folder its search began
+	// Notes are the plan's notes (route.Result.Notes: the plan's own, such as a link entry a
+	// sweep carried to another hub, a links entry dropped for the hub, a warm start's routes
+	// placed afresh), and StartedFrom the plan folder its search began
 	// from (route.Result.StartedFrom), "" for a plan from scratch: the owner's document says
 	// what the terminal and summary.json say (tester 12's finding 13).
 	Notes       []string
@@ -471,7 +473,7 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 		}
 		v.Over = money(over)
 		v.OverPct = strconv.FormatFloat(abs(*s.OverBudgetPct), 'f', 1, 64) + " %"
-		v.BudgetScope = s.BudgetScope()
+		v.BudgetScope, v.NoVerdict = s.BudgetScope(), s.NoLegPriced()
 		top := max(s.TotalCents, budget)
 		const full = 560.0
 		v.BudgetBar.TotalW = num(full * float64(s.TotalCents) / float64(top))

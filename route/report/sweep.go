@@ -145,7 +145,15 @@ func sweepViewOf(c *sweep.Comparison, opt SweepOptions) *sweepView {
 		sweepCol{"new trench (" + lu.Length + ")", true}, sweepCol{"diverse links", true}, sweepCol{"of them sharing a single point of failure", true}, sweepCol{"lacking diverse", true},
 		sweepCol{"media (legs)", false}, sweepCol{"rank by cost", true}, sweepCol{"Pareto", false},
 		sweepCol{"warnings", true}, sweepCol{"error", false},
-		sweepCol{"search started from", false}, sweepCol{"handholes to build", true}, sweepCol{"safety cautions", false})
+		sweepCol{"search started from", false}, sweepCol{"handholes to build", true})
+	// The bill's subtotals and markups, which add up to the total, as compare.csv has them.
+	for _, cat := range sweep.SubtotalCategories() {
+		v.Cols = append(v.Cols, sweepCol{cat + " (" + cur + ")", true})
+	}
+	for _, m := range sweep.Markups {
+		v.Cols = append(v.Cols, sweepCol{m.Name + " (" + cur + ")", true})
+	}
+	v.Cols = append(v.Cols, sweepCol{"safety cautions", false})
 	var cheapest []string // the cheapest ok scenarios, every one of a tie (sweep.TiedText)
 	var cheapestCents int64
 	for i := range c.Rows {
@@ -233,6 +241,7 @@ func sweepRowOf(j *sweep.Judged, keys []string, lu output.Units) sweepRow {
 	budget, over := sweepCell{}, sweepCell{}
 	if hasBudget {
 		budget, over = moneyc(*j.BudgetCents, true), moneyc(*j.OverBudgetCents, true)
+		over.Text += sweep.FeasibleOnlyText(&j.Row) // the check of the feasible legs only
 	}
 	margin := sweepCell{}
 	if planned && j.WorstMarginDB != nil {
@@ -267,7 +276,14 @@ func sweepRowOf(j *sweep.Judged, keys []string, lu output.Units) sweepRow {
 	if planned {
 		started = text(j.StartedFrom)
 	}
-	row.Cells = append(row.Cells, started, hh, cautions)
+	row.Cells = append(row.Cells, started, hh)
+	for _, cat := range sweep.SubtotalCategories() {
+		row.Cells = append(row.Cells, moneyc(j.CostByCategory[cat], j.Billed()))
+	}
+	for _, m := range sweep.Markups {
+		row.Cells = append(row.Cells, moneyc(m.Cents(&j.Row), j.Billed()))
+	}
+	row.Cells = append(row.Cells, cautions)
 	return row
 }
 

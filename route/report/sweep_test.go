@@ -231,3 +231,32 @@ func TestSweepReportTiesAndCautions(t *testing.T) {
 		t.Error("with --full the page does not point to each scenario's report")
 	}
 }
+
+// TestSweepReportSubtotalsAndBudgetScope: compare.html has the subtotal and markup columns
+// compare.csv has, which add up to the total (review 17 F8, tester 12 F10: the breakdown to
+// trace why one alternative beats another), blank for a row without a bill; and says beside an
+// infeasible row's over budget that it covers the feasible legs only (review 17 F3).
+func TestSweepReportSubtotalsAndBudgetScope(t *testing.T) {
+	rows := sweepRows()
+	rows[0].CostByCategory = map[string]int64{"material": 40_000_00, "labour": 30_000_00, "construction": 20_000_00, "optics": 5_000_00, "bid items": 1_000_00}
+	rows[0].ContingencyCents, rows[0].OverheadCents, rows[0].TaxCents = 2_000_00, 1_500_00, 500_00
+	rows[4].BudgetCents, rows[4].OverBudgetCents, rows[4].BudgetFeasibleOnly = ip(150_000_00), ip(-60_000_00), true
+	b, err := Sweep(sweep.Judge(rows, []string{"hub"}), SweepOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	html := string(b)
+	for _, want := range []string{
+		">material (USD)<", ">labour (USD)<", ">construction (USD)<", ">optics (USD)<", ">bid items (USD)<",
+		">contingency (USD)<", ">overhead (USD)<", ">tax (USD)<",
+		`<td data-v="4000000" class="n">40,000.00</td>`, `<td data-v="150000" class="n">1,500.00</td>`,
+		`<td data-v="-6000000" class="n">−60,000.00 (feasible legs only)</td>`,
+	} {
+		if !strings.Contains(html, want) {
+			t.Errorf("sweep report lacks %q", want)
+		}
+	}
+	if strings.Contains(html, "50,000.00 (feasible") {
+		t.Error("an ok row's over budget is said to cover the feasible legs only")
+	}
+}

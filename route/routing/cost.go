@@ -189,7 +189,7 @@ func (lay *layout) explain(in optimize.Infeasible, l *site.Link, prob *optimize.
 				parts = append(parts, "ducts, where its cable does not fit the innerduct")
 			}
 			if block&flagTurn != 0 {
-				parts = append(parts, "turns between pathways at junctions without a structure (design.turn_handholes: false builds no handhole there)")
+				parts = append(parts, turnsWords)
 			}
 			for _, r := range reasons {
 				parts = append(parts, strings.Join(on[r], " and ")+" spans ("+r+")")

@@ -34,6 +34,11 @@ type CheckReport struct {
 	// with its building and the reason plan gives its diverse leg (route.NoDiverse, which the
 	// caller sets it from); nil without a plan.
 	NoDiverse []string
+	// TurnsOnly lists, given a plan with design.turn_handholes: false, its links that only
+	// routes changing pathway at a junction without a structure join, each with its building
+	// and the reason plan gives their legs (route.TurnsOnly, which the caller sets it from);
+	// nil otherwise.
+	TurnsOnly []string
 	// OnlyProposed lists, given a plan with design.allow_new_trench: false, the buildings that
 	// reach the hub only over proposed pathways (Site.OnlyOverProposed); nil otherwise.
 	OnlyProposed []string

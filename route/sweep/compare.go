@@ -262,12 +262,12 @@ func textCol(csvName, human string, get func(judged) string) column {
 func hasBudget(j judged) bool { return planned(j) && j.BudgetCents != nil }
 
 // fixedColumns are the comparison's columns after the override columns.
-var fixedColumns = []column{
+var fixedColumns = slices.Concat([]column{
 	textCol("status", "status", func(j judged) string { return j.Status }),
 	textCol("currency", "currency", func(j judged) string { return j.Currency }),
 	moneyCol("total_cost", "total cost", func(r *Row) int64 { return r.TotalCents }, planned),
 	moneyCol("plan_budget", "budget", func(r *Row) int64 { return *r.BudgetCents }, hasBudget),
-	moneyCol("over_budget", "over budget", func(r *Row) int64 { return *r.OverBudgetCents }, hasBudget),
+	overBudgetColumn(),
 	intCol("infeasible_legs", "infeasible legs", func(r *Row) int { return r.InfeasibleLegs }),
 	{"worst_margin_db", "worst loss margin", "dB",
 		func(j judged) string {
@@ -349,18 +349,84 @@ var fixedColumns = []column{
 		return j.StartedFrom
 	}),
 	optIntCol("handholes_to_build", "handholes to build", func(r *Row) *int { return r.HandholesToBuild }),
-	categoryCol(media.CategoryMaterial),
-	categoryCol(media.CategoryLabour),
-	categoryCol(media.CategoryConstruction),
-	categoryCol(media.CategoryOptics),
-	categoryCol(media.CategoryBidItems),
-	moneyCol("contingency", "contingency", func(r *Row) int64 { return r.ContingencyCents }, billed),
-	moneyCol("overhead", "overhead", func(r *Row) int64 { return r.OverheadCents }, billed),
-	moneyCol("tax", "tax", func(r *Row) int64 { return r.TaxCents }, billed),
+}, costColumns(), []column{
 	// The safety cautions the scenario's work calls for, and that the figures are a planning
 	// aid, on every row: a comparison is read without the scenarios' reports (tester 12's
 	// finding 2).
 	textCol("safety", "safety", safetyText),
+	// Whether over_budget covers the feasible legs only, after the columns of earlier versions:
+	// yes for a row with a budget and infeasible legs, whose total prices those legs alone
+	// (Row.BudgetFeasibleOnly), no for another row with a budget, blank without one.
+	{"budget_feasible_legs_only", "budget checks the feasible legs only", "",
+		func(j judged) string {
+			if !hasBudget(j) {
+				return ""
+			}
+			if j.BudgetFeasibleOnly {
+				return "yes"
+			}
+			return "no"
+		},
+		func(j judged) workbook.Cell {
+			if !hasBudget(j) {
+				return workbook.Blank()
+			}
+			return workbook.Bool(j.BudgetFeasibleOnly)
+		}, nil},
+})
+
+// SubtotalCategories are the bill's categories the comparison gives a subtotal column of, in
+// order (compare.csv's cost_<category>, compare.html's too): media.Categories and the bid
+// items.
+func SubtotalCategories() []string {
+	return []string{media.CategoryMaterial, media.CategoryLabour, media.CategoryConstruction, media.CategoryOptics, media.CategoryBidItems}
+}
+
+// Markups are the bill's markups the comparison gives a column of after the subtotals, in
+// order, each with its figure of a row: together with the subtotals they add up to the total.
+var Markups = []struct {
+	Name  string
+	Cents func(*Row) int64
+}{
+	{"contingency", func(r *Row) int64 { return r.ContingencyCents }},
+	{"overhead", func(r *Row) int64 { return r.OverheadCents }},
+	{"tax", func(r *Row) int64 { return r.TaxCents }},
+}
+
+// costColumns are the subtotal columns (SubtotalCategories) and the markups (Markups).
+func costColumns() []column {
+	var out []column
+	for _, cat := range SubtotalCategories() {
+		out = append(out, categoryCol(cat))
+	}
+	for _, m := range Markups {
+		out = append(out, moneyCol(m.Name, m.Name, m.Cents, billed))
+	}
+	return out
+}
+
+// FeasibleOnlyText is what follows the over-budget figure of a row whose budget check covers
+// its feasible legs only (Row.BudgetFeasibleOnly): compare.md's and compare.html's over budget
+// cell, as the plan's own outputs say it (output.Summary.BudgetScope); "" for another row.
+func FeasibleOnlyText(r *Row) string {
+	if !r.BudgetFeasibleOnly {
+		return ""
+	}
+	return " (feasible legs only)"
+}
+
+// overBudgetColumn is total minus budget, blank without a budget; compare.md says beside it
+// when it covers the feasible legs only (FeasibleOnlyText), compare.csv and compare.xlsx in
+// the column budget_feasible_legs_only, so that the number stays a number.
+func overBudgetColumn() column {
+	c := moneyCol("over_budget", "over budget", func(r *Row) int64 { return *r.OverBudgetCents }, hasBudget)
+	c.md = func(j judged) string {
+		if !hasBudget(j) {
+			return ""
+		}
+		return money(*j.OverBudgetCents) + FeasibleOnlyText(j.Row)
+	}
+	return c
 }
 
 // safetyText is a row's safety cell: its cautions' titles and that local codes and the
@@ -381,8 +447,12 @@ func safetyText(j judged) string {
 // safetyRider ends every row's safety cell: route.PlanningAid in short.
 const safetyRider = "a planning aid, not a construction document: local codes, licensed professionals and the authority having jurisdiction prevail"
 
-// billed reports whether the row is planned with a bill whose subtotals it keeps.
-func billed(j judged) bool { return planned(j) && len(j.CostByCategory) > 0 }
+// billed reports whether the row is planned with a bill whose subtotals it keeps (Row.Billed).
+func billed(j judged) bool { return j.Billed() }
+
+// Billed reports whether the row is of a planned scenario with a bill whose subtotals it
+// keeps (CostByCategory): its subtotal and markup columns are filled, blank otherwise.
+func (r *Row) Billed() bool { return r.Status != StatusFailed && len(r.CostByCategory) > 0 }
 
 // categoryCol is the bill's subtotal of one category (media.Categories, media.CategoryBidItems)
 // as compare.csv's cost_<category> (spaces as underscores), 0 where the bill has no line of
@@ -463,7 +533,10 @@ func currencyOf(rows []Row) string {
 // (yes/no; "no (incomplete)" for an ok scenario whose total leaves out items not priced,
 // which is not ranked either), warnings, error, note, then objective and lower_bound (currency units, empty
 // without a bound) and gap_pct (the gap to the bound in percent, four decimals; empty
-// without a bound). compare.xlsx holds the same table, numbers as numbers, with a
+// without a bound), started_from, handholes_to_build, the bill's subtotals cost_<category>
+// and markups contingency, overhead and tax, safety, and budget_feasible_legs_only (yes when
+// over_budget covers the feasible legs only, no with a budget otherwise, empty without one).
+// compare.xlsx holds the same table, numbers as numbers, with a
 // second sheet of totals as formulas; compare.md the same as a Markdown table. Text from the
 // sweep (ids, case names, values, errors) is escaped for each file by package escape: no CSV
 // cell begins a formula, no Markdown text forms markup, hidden characters show as "<U+202E>".
@@ -721,8 +794,8 @@ func compareMD(js []judged, keys []string, cur string, fixed []column) []byte {
 	}
 	var cols []column
 	for _, c := range fixed {
-		if c.csv == "error" || c.csv == "currency" || c.csv == "note" || c.csv == "safety" {
-			continue // failures, notes and cautions are listed below the table; the currency is said above
+		if c.csv == "error" || c.csv == "currency" || c.csv == "note" || c.csv == "safety" || c.csv == "budget_feasible_legs_only" {
+			continue // failures, notes and cautions are listed below the table; the currency is said above; the budget's scope beside over budget
 		}
 		cols = append(cols, c)
 		h := c.human

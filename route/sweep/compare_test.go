@@ -11,6 +11,7 @@ import (
 	"testing"
 
 	"spanwright/route"
+	"spanwright/route/output"
 	"spanwright/route/workbook"
 )
 
@@ -150,7 +151,7 @@ func TestCompareMarkdown(t *testing.T) {
 	// terminal prints it in compare.md (output.PctText).
 	if !strings.Contains(csvText, ",objective,lower_bound,gap_pct,") ||
 		!strings.Contains(csvText, "0,a-1,,A|B,ok,EUR,1.50,1.00,0.50,0,1.23,0.0,2,1,0,os2:2,1,yes,0,,,1.20,1.00,4.4158,"+
-			",,,,,,,,,,\n") { // a row without a start, a handhole count, subtotals or cautions (as an earlier rows file's)
+			",,,,,,,,,,,no\n") { // a row without a start, a handhole count, subtotals or cautions (as an earlier rows file's); its budget covers every leg
 		t.Errorf("compare.csv:\n%s", csvText)
 	}
 	if !strings.Contains(md, "| optimizer objective (EUR) | proved lower bound (EUR) | gap to the bound (%) |") ||
@@ -328,5 +329,82 @@ func TestCompareTiesSubtotalsSafety(t *testing.T) {
 		if !strings.Contains(md, want) {
 			t.Errorf("compare.md lacks %q:\n%s", want, md)
 		}
+	}
+}
+
+// TestCompareBudgetFeasibleOnly: a row with infeasible legs and a budget compares a total that
+// prices its feasible legs alone, so the comparison says its over_budget covers those only, as
+// the plan's own outputs do (review 17 F3: "-338722.31" read as a plain "under by 338,722"):
+// compare.md beside the figure, compare.csv and compare.xlsx in budget_feasible_legs_only (the
+// number stays a number), and rows.jsonl keeps the flag for merge.
+func TestCompareBudgetFeasibleOnly(t *testing.T) {
+	t.Parallel()
+	rows := []Row{
+		{Index: 0, ID: "ok-0", Status: StatusOK, Currency: "USD", TotalCents: 500_000_00, BudgetCents: ip(600_000_00), OverBudgetCents: ip(-100_000_00)},
+		{Index: 1, ID: "short-1", Status: StatusInfeasible, Currency: "USD", TotalCents: 261_277_69, BudgetCents: ip(600_000_00),
+			OverBudgetCents: ip(-338_722_31), InfeasibleLegs: 10, Unserved: []string{"B03/primary"}, BudgetFeasibleOnly: true},
+		{Index: 2, ID: "nobudget-2", Status: StatusOK, Currency: "USD", TotalCents: 400_000_00},
+	}
+	files, err := Compare(rows, nil, "")
+	if err != nil {
+		t.Fatal(err)
+	}
+	data := map[string][]byte{}
+	for _, f := range files {
+		data[f.Name] = f.Data
+	}
+	recs, err := csv.NewReader(bytes.NewReader(data[CompareCSV])).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	col := func(r int, name string) string { return recs[r+1][slices.Index(recs[0], name)] }
+	for r, want := range []string{"no", "yes", ""} {
+		if got := col(r, "budget_feasible_legs_only"); got != want {
+			t.Errorf("compare.csv row %d: budget_feasible_legs_only %q, want %q", r, got, want)
+		}
+	}
+	if got := col(1, "over_budget"); got != "-338722.31" {
+		t.Errorf("compare.csv row 1: over_budget %q, want the number alone", got)
+	}
+	md := string(data[CompareMD])
+	if !strings.Contains(md, "| \\-338722.31 (feasible legs only) |") || strings.Contains(md, "100000.00 (feasible") {
+		t.Errorf("compare.md: the infeasible row's over budget is not said to cover the feasible legs only, or another row's is:\n%s", md)
+	}
+	xl, err := workbook.Open(data[CompareXLSX])
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer xl.Close()
+	sheet, err := xl.Rows("scenarios")
+	if err != nil {
+		t.Fatal(err)
+	}
+	at := slices.Index(sheet[0], "budget checks the feasible legs only")
+	cell := func(r int) string { // trailing blank cells are not read back
+		if at < len(sheet[r]) {
+			return sheet[r][at]
+		}
+		return ""
+	}
+	if at < 0 || cell(2) != "1" || cell(1) != "0" || cell(3) != "" {
+		t.Errorf("compare.xlsx: budget scope column at %d in %q", at, sheet[:3])
+	}
+	// rows.jsonl keeps it, and a row without it reads as before.
+	enc, err := encodeRows(rowsHeader{Format: RowsFormat, Scenarios: len(rows)}, rows)
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, back, err := decodeRows("rows.jsonl", bytes.NewReader(enc))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !back[1].BudgetFeasibleOnly || back[0].BudgetFeasibleOnly || !bytes.Contains(enc, []byte(`"budget_feasible_legs_only":true`)) {
+		t.Errorf("rows.jsonl does not keep budget_feasible_legs_only:\n%s", enc)
+	}
+	// The row takes it from the scenario's summary (summary.json's budget_feasible_legs_only).
+	var r Row
+	r.fill(output.Summary{Legs: 31, Infeasible: 10, BudgetCents: ip(600_000_00), OverBudgetCents: ip(-338_722_31), BudgetFeasibleOnly: true})
+	if !r.BudgetFeasibleOnly {
+		t.Error("Row.fill drops the summary's budget_feasible_legs_only")
 	}
 }

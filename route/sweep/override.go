@@ -51,6 +51,9 @@ var settings = sync.OnceValue(func() map[string]setting {
 		if f.Type.Kind() == reflect.Slice && f.Type.Elem().Kind() == reflect.Struct {
 			continue // the links list: a plan of its own, not a setting
 		}
+		if key == notesKey {
+			continue // text said with the plan, not a setting to vary
+		}
 		out[key] = setting{typ: f.Type, path: pathKeys[key]}
 	}
 	return out
@@ -367,5 +370,25 @@ func carryHubLink(root, baseRoot *yaml.Node, baseHub string) string {
 	setKey(e, "to", &yaml.Node{Kind: yaml.ScalarNode, Tag: "!!str", Value: base})
 	setKey(e, "from", &yaml.Node{Kind: yaml.ScalarNode, Tag: "!!str", Value: hub})
 	e.LineComment = "carried by the sweep from {to: " + hub + "}: " + hub + " is this scenario's hub, " + base + " the base plan's"
-	return fmt.Sprintf("links[%d] (to %s) carried to the link %s-%s, the other way: %s is this scenario's hub and %s the base plan's, so the link between them keeps the entry's settings (its redundancy among them)", at, hub, hub, base, hub, base)
+	note := fmt.Sprintf("links[%d] (to %s) carried to the link %s-%s, the other way: %s is this scenario's hub and %s the base plan's, so the link between them keeps the entry's settings (its redundancy among them)", at, hub, hub, base, hub, base)
+	addPlanNote(root, note)
+	return note
+}
+
+// notesKey is the plan's key of its notes (plan.Plan.Notes).
+const notesKey = "notes"
+
+// addPlanNote appends note to the notes of plan root (plan.Plan.Notes), which the scenario's
+// outputs carry among their notes (summary.json, the report's Notes, the comparison's note
+// column), planned by the sweep or alone from its plan.yaml (review 17 F6: the carried entry
+// was said in the comparison only, and the scenario's report said every entry of the plan
+// applied). Notes that are not a list are left to the plan's own validation.
+func addPlanNote(root *yaml.Node, note string) {
+	text := &yaml.Node{Kind: yaml.ScalarNode, Tag: "!!str", Value: note}
+	switch v := lookup(root, notesKey); {
+	case v == nil || (v.Kind == yaml.ScalarNode && v.Tag == "!!null"):
+		setKey(root, notesKey, &yaml.Node{Kind: yaml.SequenceNode, Tag: "!!seq", Content: []*yaml.Node{text}})
+	case v.Kind == yaml.SequenceNode:
+		v.Content = append(v.Content, text)
+	}
 }

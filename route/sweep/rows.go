@@ -40,7 +40,12 @@ type Row struct {
 	TotalCents      int64  `json:"total_cents"`
 	BudgetCents     *int64 `json:"budget_cents"`      // nil (null): the plan sets no budget
 	OverBudgetCents *int64 `json:"over_budget_cents"` // total minus budget; nil without a budget
-	InfeasibleLegs  int    `json:"infeasible_legs"`
+	// BudgetFeasibleOnly says the budget check covers the feasible legs only: the plan has a
+	// budget and infeasible legs, which its total does not price
+	// (output.Summary.BudgetFeasibleOnly); absent otherwise, and in a rows file written before
+	// it was kept. The comparison says so beside over_budget (review 17 F3).
+	BudgetFeasibleOnly bool `json:"budget_feasible_legs_only,omitempty"`
+	InfeasibleLegs     int  `json:"infeasible_legs"`
 	// Unserved names the infeasible legs, "link/leg" in leg order
 	// (output.Summary.InfeasibleNames); absent when every leg is feasible, and in a rows
 	// file written before it was kept, whose infeasible scenarios are then not ranked. The
@@ -57,9 +62,10 @@ type Row struct {
 	DiverseMissing     int    `json:"diverse_missing"` // links that asked for a diverse route and lack one
 	MediaMix           string `json:"media_mix"`       // feasible legs per medium: "om4:3 os2:5", by medium
 	Warnings           int    `json:"warnings"`
-	// Note says what of the base plan the scenario left out, and why (output.Summary.Notes,
-	// joined by "; "), e.g. a link entry for the building the scenario makes the hub; and what
-	// its total leaves out, priced by a book without them (output.Summary.NotPricedNote).
+	// Note says what the sweep changed in the scenario's plan beyond its overrides and what of
+	// the base plan the scenario left out, and why (output.Summary.Notes, joined by "; "), e.g.
+	// a link entry carried to, or dropped for, the building the scenario makes the hub; and
+	// what its total leaves out, priced by a book without them (output.Summary.NotPricedNote).
 	Note string `json:"note,omitempty"`
 	// NotPriced lists what its total leaves out, priced by a book without it
 	// (output.Summary.NotPriced); absent when every line is priced, and in a rows file written
@@ -110,6 +116,7 @@ func newRow(sc Scenario) Row {
 func (r *Row) fill(s output.Summary) {
 	r.Currency = s.Currency
 	r.TotalCents, r.BudgetCents, r.OverBudgetCents = s.TotalCents, s.BudgetCents, s.OverBudgetCents
+	r.BudgetFeasibleOnly = s.BudgetFeasibleOnly
 	r.InfeasibleLegs = s.Infeasible
 	r.Unserved = slices.Clone(s.InfeasibleNames)
 	r.WorstMarginDB = s.WorstMarginDB
@@ -148,18 +155,6 @@ func (r *Row) fill(s output.Summary) {
 	if s.Infeasible > 0 {
 		r.Status = StatusInfeasible
 	}
-}
-
-// addNote puts what the sweep changed in the scenario's plan beyond its overrides
-// (carryHubLink's note) before the plan's own notes; nothing when note is "".
-func (r *Row) addNote(note string) {
-	if note == "" {
-		return
-	}
-	if r.Note != "" {
-		note += "; " + r.Note
-	}
-	r.Note = note
 }
 
 // Apart is what sets a row's total apart from the complete totals of scenarios serving every

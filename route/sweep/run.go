@@ -601,7 +601,7 @@ func (r *runner) scenario(ctx context.Context, sc Scenario, resume bool) (outcom
 	}
 	dir := filepath.Join(r.out, sc.ID)
 	planPath := filepath.Join(dir, PlanFile)
-	planData, carried, err := r.planYAMLNote(sc)
+	planData, err := r.planYAML(sc)
 	if err != nil {
 		return out, err
 	}
@@ -633,7 +633,6 @@ func (r *runner) scenario(ctx context.Context, sc Scenario, resume bool) (outcom
 	if resume && p.CampusDatabase == "" {
 		if s, ok := r.resumable(sc, dir, inputs); ok {
 			out.row.fill(s)
-			out.row.addNote(carried)
 			out.row.Report = htmlIn(dir)
 			out.skipped = true
 			return out, nil
@@ -665,7 +664,6 @@ func (r *runner) scenario(ctx context.Context, sc Scenario, resume bool) (outcom
 			return fail(err)
 		}
 		out.row.fill(output.Summarize(res))
-		out.row.addNote(carried)
 		out.files = files
 		return out, nil
 	}
@@ -709,7 +707,6 @@ func (r *runner) scenario(ctx context.Context, sc Scenario, resume bool) (outcom
 		seen[o.Name] = true
 	}
 	out.row.fill(output.Summarize(res))
-	out.row.addNote(carried)
 	for _, o := range files {
 		if strings.HasSuffix(o.Name, ".html") && out.row.Report == "" {
 			out.row.Report = o.Name
@@ -734,20 +731,14 @@ func routesOnly(ctx context.Context, res *route.Result, opt output.WriteOptions)
 }
 
 // planYAML renders the scenario's plan: the base plan with file names made relative to the
-// scenario folder and the overrides applied, headed by a comment naming the scenario.
+// scenario folder and the overrides applied, headed by a comment naming the scenario. What the
+// sweep changed beyond the overrides (carryHubLink) is among its notes (plan.Plan.Notes).
 func (r *runner) planYAML(sc Scenario) ([]byte, error) {
-	data, _, err := r.planYAMLNote(sc)
-	return data, err
-}
-
-// planYAMLNote is planYAML with the note on what the sweep changed in the plan beyond the
-// overrides (carryHubLink), "" when nothing.
-func (r *runner) planYAMLNote(sc Scenario) ([]byte, string, error) {
 	doc := cloneNode(r.f.baseDoc)
 	root := doc.Content[0]
 	rebasePlanPaths(root, r.rebaseBase)
 	apply(root, sc.Set, r.rebaseSweep)
-	note := carryHubLink(root, r.f.baseDoc.Content[0], r.baseHub())
+	carryHubLink(root, r.f.baseDoc.Content[0], r.baseHub())
 	head := "scenario " + sc.ID + ": " + escape.Visible(sc.Describe()) // YAML comments allow no control characters
 	if b := builtIns(root); b != "" {
 		// Part of the plan's bytes, so a resumed sweep plans again when a new build changes
@@ -763,12 +754,12 @@ func (r *runner) planYAMLNote(sc Scenario) ([]byte, string, error) {
 	enc := yaml.NewEncoder(&b)
 	enc.SetIndent(2)
 	if err := enc.Encode(doc); err != nil {
-		return nil, "", fmt.Errorf("scenario %s: %w", sc.ID, err)
+		return nil, fmt.Errorf("scenario %s: %w", sc.ID, err)
 	}
 	if err := enc.Close(); err != nil {
-		return nil, "", err
+		return nil, err
 	}
-	return b.Bytes(), note, nil
+	return b.Bytes(), nil
 }
 
 // builtIns names, with their SHA-256, the embedded files a plan reads because it names no

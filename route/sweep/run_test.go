@@ -24,6 +24,7 @@ import (
 	"spanwright/route"
 	"spanwright/route/fileset"
 	"spanwright/route/output"
+	"spanwright/route/plan"
 )
 
 func run(t *testing.T, f *File, opt Options) *Report {
@@ -275,12 +276,34 @@ func TestHubAxisCarriesItsLink(t *testing.T) {
 		if asked(r) != asked(recs[1]) {
 			t.Errorf("hub %s: %d diverse links asked for, the base %d", r[hub], asked(r), asked(recs[1]))
 		}
-		plan, err := os.ReadFile(filepath.Join(dir, f.Scenarios()[i].ID, PlanFile))
+		planData, err := os.ReadFile(filepath.Join(dir, f.Scenarios()[i].ID, PlanFile))
 		if err != nil {
 			t.Fatal(err)
 		}
-		if e := entry[r[hub]]; e != "" && !strings.Contains(string(plan), e+" # carried by the sweep from {to: "+r[hub]+"}") {
-			t.Errorf("hub %s: plan.yaml lacks %q:\n%s", r[hub], e, plan)
+		if e := entry[r[hub]]; e != "" && !strings.Contains(string(planData), e+" # carried by the sweep from {to: "+r[hub]+"}") {
+			t.Errorf("hub %s: plan.yaml lacks %q:\n%s", r[hub], e, planData)
+		}
+		// The scenario's own outputs say it, not only the comparison (review 17 F6): its
+		// summary.json's notes (and so the terminal and the report's Notes, which print
+		// route.Result.Notes), and its plan.yaml planned alone says it too (plan.Plan.Notes),
+		// so that `spanwright plan` of it still writes the scenario's files byte for byte.
+		data, err := os.ReadFile(filepath.Join(dir, f.Scenarios()[i].ID, "summary.json"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		var sum output.Summary
+		if err := json.Unmarshal(data, &sum); err != nil {
+			t.Fatal(err)
+		}
+		if w := want[r[hub]]; w != "" && !slices.Contains(sum.Notes, w) || w == "" && len(sum.Notes) > 0 {
+			t.Errorf("hub %s: summary.json notes %q, want %q among them", r[hub], sum.Notes, w)
+		}
+		p, err := plan.LoadPlan(filepath.Join(dir, f.Scenarios()[i].ID, PlanFile))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if w := want[r[hub]]; w != "" && !slices.Equal(p.Notes, []string{w}) {
+			t.Errorf("hub %s: plan.yaml's notes %q, want %q", r[hub], p.Notes, w)
 		}
 	}
 }
