@@ -68,10 +68,20 @@ func median(xs []float64) float64 {
 	return (xs[n/2-1] + xs[n/2]) / 2
 }
 
-// far reports whether position p lies farther than FarM from mid, and how far, in metres.
+// farBoundR is a radius no radius of curvature of the WGS84 ellipsoid exceeds (its polar
+// radius of curvature, a²/b, 6,399,594 m, rounded up), in metres: far's quick bound.
+const farBoundR = 6.4e6
+
+// far reports whether position p lies farther than FarM from mid, and how far, in metres
+// (0 when it does not). A position whose quick bound, the length of a way from mid along its
+// meridian and then along p's parallel, at farBoundR, is within FarM is not measured further.
 func far(mid, p orb.Point) (distM float64, isFar bool) {
 	if !finite(p) {
 		return 0, false // validate reports it
+	}
+	dLat, dLon := math.Abs(p[1]-mid[1])*deg, math.Abs(math.Remainder(p[0]-mid[0], 360))*deg
+	if farBoundR*(dLat+dLon*math.Cos(p[1]*deg)) <= FarM {
+		return 0, false
 	}
 	d := DistanceM(mid, p)
 	return d, d > FarM
@@ -235,8 +245,9 @@ func farHint(mid, p orb.Point) string {
 		if checkRange(s.q) != nil {
 			continue
 		}
-		if d, isFar := far(mid, s.q); !isFar {
-			return fmt.Sprintf("; %s (%s, %s would lie %s from the middle)", s.text, fmtCoord(s.q[0]), fmtCoord(s.q[1]), kmText(d))
+		if _, isFar := far(mid, s.q); !isFar {
+			return fmt.Sprintf("; %s (%s, %s would lie %s from the middle)", s.text, fmtCoord(s.q[0]), fmtCoord(s.q[1]),
+				kmText(DistanceM(mid, s.q)))
 		}
 	}
 	return ""
