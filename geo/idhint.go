@@ -110,3 +110,45 @@ func (l *loader) blankIDWarnings() {
 			b.id, blankEnds(b.id), input.Counted(len(bs)-1, "more feature", "more features")))
 	}
 }
+
+// groupWarnings warns of each shared-risk group given that differs from one given before
+// only by letter case or by spaces at either end ("North trench" and "north trench "): they
+// are two groups, matched exactly, so a diverse pair may take one of each, and the warning
+// names the other pathway. One warning per spelling, on its first pathway. Ids stay what
+// they are: a pathway's id is its group only when it gives none.
+func (l *loader) groupWarnings() {
+	first := map[string]bool{}     // the spellings met
+	byKey := map[string]groupUse{} // by the spelling folded: the first spelling given
+	for _, g := range l.groups {
+		if first[g.group] {
+			continue
+		}
+		first[g.group] = true
+		key := strings.ToLower(strings.TrimSpace(g.group))
+		other, ok := byKey[key]
+		if !ok {
+			byKey[key] = g
+			continue
+		}
+		l.warn(g.src, g.pathway, fmt.Sprintf("its shared-risk group %q differs from %q (pathway %q, %s) only by %s: they are two groups, and a diverse pair may use one of each; write the group alike on every pathway of one trench or duct bank",
+			g.group, other.group, other.pathway, other.src, differsBy(g.group, other.group)))
+	}
+}
+
+// groupUse is a shared-risk group a pathway gives.
+type groupUse struct {
+	group, pathway string
+	src            Source
+}
+
+// differsBy says what sets a apart from b, two strings equal but for letter case and spaces
+// at their ends.
+func differsBy(a, b string) string {
+	switch {
+	case strings.TrimSpace(a) == strings.TrimSpace(b):
+		return "spaces at either end"
+	case strings.TrimSpace(a) == a && strings.TrimSpace(b) == b:
+		return "letter case"
+	}
+	return "letter case and spaces at either end"
+}

@@ -77,3 +77,35 @@ func TestBlankIDWarned(t *testing.T) {
 		}
 	}
 }
+
+// TestGroupSpellingsWarned: shared-risk groups matched exactly, "North trench" and
+// "north trench " are two groups (a diverse pair may take one of each): warned of, naming the
+// other pathway; the same spelling again is no warning.
+func TestGroupSpellingsWarned(t *testing.T) {
+	t.Parallel()
+	var fs []string
+	for i, g := range []string{"North trench", "North trench", "north trench", "North trench ", "DB-2"} {
+		fs = append(fs, fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":"P-%d","group":%q},"geometry":{"type":"LineString","coordinates":[[10,%g],[10.001,%g]]}}`,
+			i, g, 50+float64(i)*0.001, 50+float64(i)*0.001))
+	}
+	c, err := Parse("c.geojson", []byte(`{"type":"FeatureCollection","features":[`+strings.Join(fs, ",")+`]}`))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var got []string
+	for _, w := range c.warns {
+		got = append(got, w.src.Short(w.id)+": "+w.msg)
+	}
+	want := []string{
+		`#2 (P-2): its shared-risk group "north trench" differs from "North trench" (pathway "P-0", c.geojson feature #0) only by letter case: they are two groups, and a diverse pair may use one of each; write the group alike on every pathway of one trench or duct bank`,
+		`#3 (P-3): its shared-risk group "North trench " differs from "North trench" (pathway "P-0", c.geojson feature #0) only by spaces at either end:`,
+	}
+	if len(got) != len(want) {
+		t.Fatalf("got %d warnings, want %d:\n%s", len(got), len(want), strings.Join(got, "\n"))
+	}
+	for i, w := range want {
+		if !strings.HasPrefix(got[i], w) {
+			t.Errorf("got\n%s\nwant it to start with\n%s", got[i], w)
+		}
+	}
+}

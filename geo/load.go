@@ -257,6 +257,9 @@ type loader struct {
 	// smallDucts are the pathways whose duct_mm is below SmallestDuctMM, in the order read
 	// (smallDuctWarnings).
 	smallDucts []smallDuct
+	// groups are the shared-risk groups pathways give, with the pathway, in the order read
+	// (groupWarnings).
+	groups []groupUse
 }
 
 // idDiff is a feature whose Feature "id" member (as a message prints it) differs from its
@@ -349,6 +352,7 @@ func (l *loader) finish() (*Campus, error) {
 	l.idWarnings()
 	l.blankIDWarnings()
 	l.smallDuctWarnings()
+	l.groupWarnings()
 	l.blankWarnings()
 	c.warns = append(slices.Clone(l.warns), sameFootprints(c.Buildings)...)
 	return &c, nil
@@ -899,6 +903,8 @@ func (f *feature) pathway(g orb.Geometry, ok bool) {
 	group, has := f.str(PropGroup)
 	if !has || group == "" {
 		group = f.id
+	} else {
+		f.l.groups = append(f.l.groups, groupUse{group: group, pathway: f.id, src: f.src})
 	}
 	ductMM := f.num(PropDuctMM, DefaultDuctMM, ductRange)
 	if ductMM < SmallestDuctMM {
