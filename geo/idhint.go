@@ -20,8 +20,11 @@ const idHintsMax = 3
 // BuildingHint returns the hint for got, an id that names no building: "; did you mean …?"
 // naming each building (up to idHintsMax, in the campus's order) whose id differs from got
 // only by letter case or by spaces at either end, with where it is and what differs; "" when
-// none does.
+// none does, or for a nil campus.
 func (c *Campus) BuildingHint(got string) string {
+	if c == nil {
+		return ""
+	}
 	var cands []idCand
 	for _, b := range c.Buildings {
 		cands = append(cands, idCand{b.ID, b.Source})
