@@ -128,3 +128,17 @@ func BenchmarkSameFootprints(b *testing.B) {
 		}
 	}
 }
+
+// BenchmarkNearBound measures what the far-position rule adds to each projection Build makes
+// (nearBound: the middle, then every position against FarM); checkFar on reading does the same.
+func BenchmarkNearBound(b *testing.B) {
+	c := benchCampuses()["grid_70x72"]
+	n := 0
+	featurePositions(c, func(Source, string, orb.Point) bool { n++; return true })
+	for b.Loop() {
+		if _, ok := nearBound(c); !ok {
+			b.Fatal("no bound")
+		}
+	}
+	b.ReportMetric(float64(n), "positions")
+}

@@ -406,44 +406,19 @@ func (b *builder) setup() {
 	}
 }
 
-// project sets the local projection around the campus's bounding box, and the grids' cell
-// size from its extent.
+// project sets the local projection about the centre of the bounding box of the campus's
+// positions within FarM of its middle (middleOf), and the grids' cell size from that box's
+// extent: a position farther out (refused on reading, possible in a campus built by hand)
+// moves neither, so it changes no distance, lateral or route elsewhere.
 func (b *builder) project() {
 	c := b.c
-	var bound orb.Bound
-	first := true
-	ext := func(p orb.Point) {
-		if first {
-			bound, first = orb.Bound{Min: p, Max: p}, false
-		} else {
-			bound = bound.Extend(p)
-		}
-	}
-	for _, pw := range c.Pathways {
-		for _, ls := range pw.Lines {
-			for _, p := range ls {
-				ext(p)
-			}
-		}
-	}
-	for _, bl := range c.Buildings {
-		for _, poly := range bl.Footprint {
-			for _, r := range poly {
-				for _, p := range r {
-					ext(p)
-				}
-			}
-		}
-	}
-	for _, s := range c.Structures {
-		ext(s.Point)
-	}
-	for _, e := range c.Entrances {
-		ext(e.Point)
-	}
+	bound, ok := nearBound(c)
 	b.proj = newProjector(bound)
-	lo, hi := b.proj.xy(bound.Min), b.proj.xy(bound.Max)
-	cell := math.Max(minCellM, math.Max(hi.x-lo.x, hi.y-lo.y)/1024)
+	cell := minCellM
+	if ok {
+		lo, hi := b.proj.xy(bound.Min), b.proj.xy(bound.Max)
+		cell = math.Max(minCellM, math.Max(hi.x-lo.x, hi.y-lo.y)/1024)
+	}
 	b.segGrid, b.vtxGrid, b.cellM = newGrid(cell), newGrid(cell), cell
 }
 

@@ -248,6 +248,18 @@ type loader struct {
 	// property in the order first met (blankWarnings); blankAt indexes them.
 	blanks  []blankUse
 	blankAt map[string]int
+	// unprojected are the rows left in their table's own coordinate system (Row.Unprojected),
+	// whose positions checkFar does not measure.
+	unprojected map[Source]bool
+	// blankIDs are the features whose id starts or ends with a space, in the order read
+	// (blankIDWarnings).
+	blankIDs []idCand
+	// smallDucts are the pathways whose duct_mm is below SmallestDuctMM, in the order read
+	// (smallDuctWarnings).
+	smallDucts []smallDuct
+	// groups are the shared-risk groups pathways give, with the pathway, in the order read
+	// (groupWarnings).
+	groups []groupUse
 }
 
 // idDiff is a feature whose Feature "id" member (as a message prints it) differs from its
@@ -301,7 +313,7 @@ type idUse struct {
 }
 
 func newLoader() *loader {
-	return &loader{ctx: context.Background(), ids: make(map[string]idUse)}
+	return &loader{ctx: context.Background(), ids: make(map[string]idUse), unprojected: make(map[Source]bool)}
 }
 
 // featureCheckEvery is how many features a file's reading takes between two looks at the
@@ -330,6 +342,7 @@ func (l *loader) finish() (*Campus, error) {
 	read := len(l.errs.List)
 	l.checkEntrances()
 	l.checkMC()
+	l.checkFar()
 	if l.errs.Len() > 0 {
 		l.placeLate(read)
 		return nil, &l.errs
@@ -337,6 +350,9 @@ func (l *loader) finish() (*Campus, error) {
 	c := l.c
 	c.sortFeatures()
 	l.idWarnings()
+	l.blankIDWarnings()
+	l.smallDuctWarnings()
+	l.groupWarnings()
 	l.blankWarnings()
 	c.warns = append(slices.Clone(l.warns), sameFootprints(c.Buildings)...)
 	return &c, nil
@@ -406,7 +422,7 @@ func (l *loader) checkEntrances() {
 		switch {
 		case !ok:
 			l.errs.Add(&input.Problem{File: e.File, Feature: e.Feature(e.ID), Key: PropBuilding,
-				Err: problemf(ErrUnknownReference, "want the id of a building, got %q, which no feature has", e.Building)})
+				Err: problemf(ErrUnknownReference, "want the id of a building, got %q, which no feature has%s", e.Building, l.c.BuildingHint(e.Building))})
 		case use.kind != KindBuilding:
 			l.errs.Add(&input.Problem{File: e.File, Feature: e.Feature(e.ID), Key: PropBuilding,
 				Err: problemf(ErrUnknownReference, "want the id of a building, got %q, which is a %s (%s)",
@@ -658,6 +674,9 @@ func (f *feature) check(member any, geom orb.Geometry, gerr error, tableKind str
 			f.add(PropID, problemf(ErrDuplicateID, "duplicate id %q: first used by %s", f.id, use.Source))
 		} else {
 			l.ids[f.id] = idUse{Source: f.src, kind: kind}
+			if blankEnds(f.id) != "" {
+				l.blankIDs = append(l.blankIDs, idCand{f.id, f.src})
+			}
 		}
 	}
 
@@ -884,6 +903,12 @@ func (f *feature) pathway(g orb.Geometry, ok bool) {
 	group, has := f.str(PropGroup)
 	if !has || group == "" {
 		group = f.id
+	} else {
+		f.l.groups = append(f.l.groups, groupUse{group: group, pathway: f.id, src: f.src})
+	}
+	ductMM := f.num(PropDuctMM, DefaultDuctMM, ductRange)
+	if ductMM < SmallestDuctMM {
+		f.l.smallDucts = append(f.l.smallDucts, smallDuct{f.src, f.id, ductMM})
 	}
 	f.l.c.Pathways = append(f.l.c.Pathways, Pathway{
 		Source:     f.src,
@@ -891,7 +916,7 @@ func (f *feature) pathway(g orb.Geometry, ok bool) {
 		Type:       typ,
 		Status:     status,
 		SpareDucts: int(f.num(PropSpareDucts, DefaultSpareDucts, spareRange)),
-		DuctMM:     f.num(PropDuctMM, DefaultDuctMM, ductRange),
+		DuctMM:     ductMM,
 		EMI:        emi,
 		Surface:    surface,
 		Method:     method,
@@ -943,10 +968,14 @@ func (f *feature) entrance(g orb.Geometry, ok bool) {
 // null or the empty string is not. A shapefile's text field cannot be NULL, so exports from
 // one write "" for every empty attribute; "" is taken as absent wherever absent has a
 // meaning (the default), and a property that is required says "missing" of it (emptyNote).
+// A blank of blankDefaults, "" or a GeoJSON null (a database export's unknown), is noted
+// for blankWarnings.
 func (f *feature) given(key string) (any, bool) {
-	v := f.props[key]
-	if v == "" && blankDefaults[key] {
-		f.l.noteBlank(f, key)
+	v, present := f.props[key]
+	// A table's NULL is also how it holds a value absent (every row has every column), so
+	// only GeoJSON's null, written where the key could have been left out, is a blank.
+	if (v == "" || present && v == nil && f.src.Table == "") && blankDefaults[key] {
+		f.l.noteBlank(f, key, v == nil)
 	}
 	if v == nil || v == "" {
 		return nil, false
@@ -966,18 +995,19 @@ var blankDefaults = map[string]bool{
 	PropSurface: true, PropMethod: true, PropRiserM: true,
 }
 
-// blankUse is the first feature of one file and kind that gave property key as "", and how
-// many did.
+// blankUse is the first feature of one file and kind that gave property key as "" (or as
+// null), and how many did.
 type blankUse struct {
 	src      Source
 	id, kind string
 	key      string
+	null     bool // given as null (a table's NULL), not ""
 	n        int
 }
 
-// noteBlank counts f giving property key as "" (blankDefaults).
-func (l *loader) noteBlank(f *feature, key string) {
-	k := f.src.File + "\x00" + f.kind + "\x00" + key
+// noteBlank counts f giving property key as "", or as null when null is set (blankDefaults).
+func (l *loader) noteBlank(f *feature, key string, null bool) {
+	k := f.src.File + "\x00" + f.kind + "\x00" + key + "\x00" + strconv.FormatBool(null)
 	if i, ok := l.blankAt[k]; ok {
 		l.blanks[i].n++
 		return
@@ -986,7 +1016,7 @@ func (l *loader) noteBlank(f *feature, key string) {
 		l.blankAt = map[string]int{}
 	}
 	l.blankAt[k] = len(l.blanks)
-	l.blanks = append(l.blanks, blankUse{src: f.src, id: f.id, kind: f.kind, key: key, n: 1})
+	l.blanks = append(l.blanks, blankUse{src: f.src, id: f.id, kind: f.kind, key: key, null: null, n: 1})
 }
 
 // blankWarnings warns, on the first such feature, of each file, kind and property given as
@@ -997,8 +1027,12 @@ func (l *loader) blankWarnings() {
 		if b.n > 1 {
 			what = fmt.Sprintf("%s of this file give", input.Counted(b.n, b.kind, b.kind+"s"))
 		}
-		l.warn(b.src, b.id, fmt.Sprintf("%s %q as an empty string, taken as absent: %s; give the value if that is not what the drawing means",
-			what, b.key, blankDefaultText(b.kind, b.key)))
+		as := "an empty string"
+		if b.null {
+			as = "null"
+		}
+		l.warn(b.src, b.id, fmt.Sprintf("%s %q as %s, taken as absent: %s; give the value if that is not what the drawing means",
+			what, b.key, as, blankDefaultText(b.kind, b.key)))
 	}
 }
 
@@ -1199,8 +1233,13 @@ func (f *feature) num(key string, def float64, r input.Range) float64 {
 	if !isNum {
 		hint := ""
 		if t, ok := v.(string); ok {
-			if _, err := strconv.ParseFloat(strings.TrimSpace(t), 64); err == nil {
+			t = strings.TrimSpace(t)
+			if _, err := strconv.ParseFloat(t, 64); err == nil {
 				hint = " (write numbers without quotes)"
+			} else if dot := strings.Replace(t, ",", ".", 1); strings.Count(t, ",") == 1 && !strings.Contains(t, ".") {
+				if _, err := strconv.ParseFloat(dot, 64); err == nil {
+					hint = fmt.Sprintf(" (a decimal comma? write %s, with a point and without quotes)", dot)
+				}
 			}
 		}
 		f.add(key, problemf(ErrWrongType, "want %s, got %s%s", r, describe(v), hint))

@@ -76,6 +76,9 @@ func (r *Reader) Row(row Row) {
 		f.props = map[string]any{}
 	}
 	geom, gerr := row.Geometry, row.GeometryErr
+	if row.Unprojected && geom != nil {
+		r.l.unprojected[row.Source] = true // its coordinates are no longitude/latitude (checkFar)
+	}
 	if gerr == nil && !(row.Unprojected && geom != nil) {
 		geom, gerr = checkGeometry(geom)
 	}

@@ -72,10 +72,11 @@ func runCheck(ctx context.Context, args []string, db string, maxBytes int64, opt
 	if err := output.PrintCheck(w, rep, opt); err != nil {
 		return err
 	}
-	if hub != "" && rep.Hub == "" {
+	if hub != "" && rep.Hub == "" && planErr == nil {
 		_, err := st.Hub(p) // the plan's problem, at the hub's line
 		return err
 	}
+	// planErr, with no hub, is route.Check's: the hub's problem and every other at once.
 	if planErr != nil {
 		return planErr
 	}

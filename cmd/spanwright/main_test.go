@@ -147,17 +147,27 @@ func TestBadInput(t *testing.T) {
 			[]string{`reel_slack.yaml:5:39: design.splice_slack_m: want at most 47.11 metres: a reel carries reel_m / (1 + waste_pct/100) = 95.24 m of channel`}},
 		{"unknown hub", []string{"plan", "testdata/plans/unknown_hub.yaml", "--out", "x"}, exitInvalid, []string{`unknown_hub.yaml:3:6: hub: want the id of a building, got "NOPE", which no building has`}},
 		{"unknown link buildings, all reported", []string{"plan", "testdata/plans/unknown_link.yaml", "--out", "x"}, exitInvalid,
-			[]string{`unknown_link.yaml:5:10: links[1].to: unknown building "GHOST"`, `unknown_link.yaml:6:12: links[2].from: unknown building "PHANTOM"`}},
+			[]string{`unknown_link.yaml:5:10: links[1].to: want the id of a building, got "GHOST", which no building has`, `unknown_link.yaml:6:12: links[2].from: want the id of a building, got "PHANTOM", which no building has`}},
 		// Every problem at once: the plan's own (a misspelt key, a number out of range) and
 		// those only its campus shows (an unknown building), for plan and for check alike.
 		{"plan and campus problems in one run", []string{"plan", "testdata/plans/typo_and_unknown.yaml", "--out", "x"}, exitInvalid,
 			[]string{`typo_and_unknown.yaml:4:3: design.slak_m: unknown key; did you mean slack_m?`, `typo_and_unknown.yaml:5:11: design.snap_m: want metres above 0`,
-				`typo_and_unknown.yaml:8:10: links[1].to: unknown building "GHOST"`, `typo_and_unknown.yaml:8:17: links[1].strandz: unknown key; did you mean strands?`}},
+				`typo_and_unknown.yaml:8:10: links[1].to: want the id of a building, got "GHOST", which no building has`, `typo_and_unknown.yaml:8:17: links[1].strandz: unknown key; did you mean strands?`}},
 		{"an unknown hub hides no other problem", []string{"plan", "testdata/plans/unknown_hub_and_more.yaml", "--out", "x"}, exitInvalid,
-			[]string{`unknown_hub_and_more.yaml:3:6: hub: want the id of a building, got "NOPE"`, `unknown_hub_and_more.yaml:6:10: links[1].to: unknown building "GHOST"`,
+			[]string{`unknown_hub_and_more.yaml:3:6: hub: want the id of a building, got "NOPE"`, `unknown_hub_and_more.yaml:6:10: links[1].to: want the id of a building, got "GHOST", which no building has`,
 				`unknown_hub_and_more.yaml:7:22: links[2].rate: rate "11G": no application runs at 11G`}},
+		// One handhole of the campus with longitude and latitude swapped, 7,866 km off: refused
+		// with the slip named, never planned on a projection it stretches (tester 13 F-C).
+		{"a stray far feature", []string{"plan", "testdata/plans/stray.yaml", "--out", "x"}, exitInvalid,
+			[]string{`stray.geojson: feature #1 "HH-99": geometry: want positions within 100 km of the middle of the campus (-1.49685, 53.0001), got 53.0001, -1.4975, 7866 km away; longitude and latitude swapped?`}},
+		{"check: a stray far feature", []string{"check", "testdata/plans/stray.yaml"}, exitInvalid,
+			[]string{`feature #1 "HH-99": geometry: want positions within 100 km`}},
+		// check as plan: the hub's problem and the links' at once (it gave the hub's alone).
+		{"check: an unknown hub hides no other problem", []string{"check", "testdata/plans/unknown_hub_and_more.yaml"}, exitInvalid,
+			[]string{`unknown_hub_and_more.yaml:3:6: hub: want the id of a building, got "NOPE"`,
+				`unknown_hub_and_more.yaml:6:10: links[1].to: want the id of a building, got "GHOST", which no building has`}},
 		{"check: plan and campus problems in one run", []string{"check", "testdata/plans/typo_and_unknown.yaml"}, exitInvalid,
-			[]string{`design.slak_m: unknown key`, `links[1].to: unknown building "GHOST"`}},
+			[]string{`design.slak_m: unknown key`, `links[1].to: want the id of a building, got "GHOST", which no building has`}},
 		// A warning's length in the run's units: 0.5 m is 1.6 ft (1 ft = 0.3048 m exactly, NIST SP 811 B.8).
 		{"check in feet", []string{"check", "--units", "imperial", "testdata/plans/island.yaml"}, exitInfeasible,
 			[]string{"building footprint within 1.6 ft (design: snap_m)"}},

@@ -52,7 +52,8 @@ func (s *Site) Hub(p *plan.Plan) (string, error) {
 		}
 	}
 	if _, ok := s.building[hub]; !ok {
-		return "", p.Problem("hub", input.Errorf(input.ErrBadValue, "want the id of a building, got %q, which no building has", hub))
+		return "", p.Problem("hub", input.Errorf(input.ErrBadValue, "want the id of a building, got %q, which no building has%s",
+			hub, s.Campus.BuildingHint(hub)))
 	}
 	return hub, nil
 }

@@ -33,7 +33,8 @@ func (s *Site) unknownBuilding(p *plan.Plan, n int) error {
 			continue
 		}
 		if _, ok := s.building[end.id]; !ok {
-			return p.Problem(fmt.Sprintf("links[%d].%s", n, end.key), input.Errorf(input.ErrBadValue, "unknown building %q", end.id))
+			return p.Problem(fmt.Sprintf("links[%d].%s", n, end.key), input.Errorf(input.ErrBadValue, "want the id of a building, got %q, which no building has%s",
+				end.id, s.Campus.BuildingHint(end.id)))
 		}
 	}
 	return nil

@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"reflect"
 	"slices"
 	"strings"
 	"testing"
@@ -139,11 +140,42 @@ func TestLinksErrors(t *testing.T) {
 		msgs = append(msgs, e.Error())
 	}
 	all := strings.Join(msgs, "\n")
-	for _, want := range []string{`plan.yaml:3:10: links[0].to: unknown building "X"`, `plan.yaml:4:12: links[1].from: unknown building "Y"`,
+	for _, want := range []string{`plan.yaml:3:10: links[0].to: want the id of a building, got "X", which no building has`,
+		`plan.yaml:4:12: links[1].from: want the id of a building, got "Y", which no building has`,
 		`plan.yaml:6:12: links[3].from: a link from "C" to itself`} {
 		if !strings.Contains(all, want) {
 			t.Errorf("got %q, want it to contain %q", all, want)
 		}
+	}
+}
+
+// TestIDHints: a plan's id that names no building, but differs from one of the campus only
+// by letter case or by spaces at either end (invisible in the GIS), is refused as any unknown
+// id, and its message names the building meant, where it is and what differs; the hub's
+// message and the links' are worded alike (tester 13 F-J).
+func TestIDHints(t *testing.T) {
+	t.Parallel()
+	s := lineCampus(t, []string{"HUB ", "plov", "Plov", "ELDE"}, []float64{0, 100, 200, 300}, nil, "")
+	p, err := plan.ParsePlan("plan.yaml", []byte("campus: [c]\nhub: HUB\nlinks:\n  - {to: PLOV}\n  - {from: \" elde\", to: plov}\n  - {to: GONE}\n"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, herr := s.Hub(p)
+	errs := append([]error{herr}, s.UnknownBuildings(p)...)
+	var msgs []string
+	for _, e := range errs {
+		if e != nil {
+			msgs = append(msgs, e.Error())
+		}
+	}
+	want := []string{
+		`plan.yaml:2:6: hub: want the id of a building, got "HUB", which no building has; did you mean "HUB " (line.geojson feature #0)? (spaces at either end matter)`,
+		`plan.yaml:4:10: links[0].to: want the id of a building, got "PLOV", which no building has; did you mean "Plov" (line.geojson feature #4) or "plov" (line.geojson feature #2)? (letter case matters)`,
+		`plan.yaml:5:12: links[1].from: want the id of a building, got " elde", which no building has; did you mean "ELDE" (line.geojson feature #6)? (letter case and spaces at either end matter)`,
+		`plan.yaml:6:10: links[2].to: want the id of a building, got "GONE", which no building has`,
+	}
+	if !reflect.DeepEqual(msgs, want) {
+		t.Errorf("got\n%s\nwant\n%s", strings.Join(msgs, "\n"), strings.Join(want, "\n"))
 	}
 }
 
