@@ -581,9 +581,10 @@ type geoSpan struct {
 	lengthM float64
 }
 
-// surfaceOf is a piece of new work's surface for new_construction: NULL for a bore.
+// surfaceOf is a piece of new work's surface for new_construction: NULL for a bore and for
+// a pathway that is not dug (items.Dug), which restores none.
 func surfaceOf(pc estimate.WorkPiece) any {
-	if pc.Method == geo.MethodBore {
+	if pc.Method != geo.MethodTrench {
 		return nil
 	}
 	return pc.Surface

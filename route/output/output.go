@@ -642,6 +642,22 @@ func NewWorkParts(c estimate.Construction, length func(m float64) string) string
 	return strings.Join(of, "; ")
 }
 
+// NewPathwayText is the proposed pathways the plan opens that are not dug
+// (estimate.Construction.PathwayM, outside the new trench figure), with lengths written by
+// length: "new pole line 751.3 m, new cable tray 12.0 m", "" when none.
+func NewPathwayText(c estimate.Construction, length func(m float64) string) string {
+	names := map[string]string{geo.TypeAerial: "new pole line", geo.TypeTray: "new cable tray", geo.TypeTunnel: "new utility tunnel"}
+	var out []string
+	for _, t := range slices.Sorted(maps.Keys(c.PathwayM)) {
+		n, ok := names[t]
+		if !ok {
+			n = "new " + t + " pathway"
+		}
+		out = append(out, n+" "+length(c.PathwayM[t]))
+	}
+	return strings.Join(out, ", ")
+}
+
 // TotalsOf adds up the totals of r.
 func TotalsOf(r *route.Result) Totals {
 	t := Totals{NewM: newWorkM(r.Estimate), CableM: cutOf(WriteOptions{}, r).all()}
@@ -906,6 +922,9 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 	bored := ""
 	if of := NewWorkParts(c, length); of != "" {
 		bored = " (" + of + ")"
+	}
+	if built := NewPathwayText(c, length); built != "" {
+		bored += ", " + built
 	}
 	taps := ""
 	if len(c.TapJunctions) > 0 {
