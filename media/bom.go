@@ -434,21 +434,73 @@ func (b *BOM) total() {
 // Describe is the line's item in words; for labour it adds the work and the rate, e.g.
 // "pull cable in duct: 1234.5 m at 60.0 m per hour", "terminate fibre strands: 96 at 8 per
 // hour". length writes a number of metres with its unit, in the units and style of the
-// output the text goes to (nil: one decimal and "m").
+// output the text goes to (nil: one decimal and "m"); the rate gets the decimals it needs
+// for the line to multiply out (rateShown).
 func (l BOMLine) Describe(length func(m float64) string) string {
 	if l.WorkUnit == "" {
 		return l.Item
 	}
+	if length == nil {
+		length = func(m float64) string { return strconv.FormatFloat(m, 'f', 1, 64) + " m" }
+	}
 	amount := func(x float64) string {
-		switch {
-		case l.WorkUnit != UnitM:
+		if l.WorkUnit != UnitM {
 			return strconv.FormatFloat(x, 'f', -1, 64)
-		case length == nil:
-			return strconv.FormatFloat(x, 'f', 1, 64) + " m"
 		}
 		return length(x)
 	}
-	return fmt.Sprintf("%s: %s at %s per hour", l.Item, amount(l.Work), amount(l.RatePerHour))
+	work, rate := amount(l.Work), amount(l.RatePerHour)
+	if l.WorkUnit == UnitM {
+		rate = l.rateShown(work, rate, length)
+	}
+	return fmt.Sprintf("%s: %s at %s per hour", l.Item, work, rate)
+}
+
+// rateShown is the production rate of a labour line in metres as Describe writes it, given
+// the work and the rate as length wrote them: as written when the work as written, over it,
+// gives the line's hours (rounded up to 0.01 h, as Bill rounds them), else with as many more
+// decimals as that takes, up to six, or, where the work's own rounding to 0.1 keeps the line
+// from multiplying out whatever the rate, as many as make the rate's rounding move the
+// hours by less than 0.0005 h (tester 13's finding I: "42227.3 ft at 196.9 ft per hour" is
+// 214.46 h, and the line's 214.52 h came from 60 m per hour, 196.85 ft). The output's unit
+// per metre and its name are read back from what length writes (shownNumber), so every
+// writer, in whatever style, gets the digits.
+func (l BOMLine) rateShown(work, rate string, length func(m float64) string) string {
+	w, _, okW := shownNumber(work)
+	r, unit, okR := shownNumber(rate)
+	hours := func(r float64) float64 { return math.Ceil(w/r*100-1e-6) / 100 }
+	if !okW || !okR || r <= 0 || l.Unit != UnitHour || hours(r) == l.Quantity {
+		return rate
+	}
+	big, _, ok := shownNumber(length(1e6))
+	if !ok || big <= 0 {
+		return rate
+	}
+	exact := l.RatePerHour * big / 1e6 // in the writer's unit
+	precise := ""
+	for d := 2; d <= 6; d++ {
+		p := math.Pow(10, float64(d))
+		rd := math.Round(exact*p) / p
+		text := strconv.FormatFloat(rd, 'f', d, 64) + " " + unit
+		if hours(rd) == l.Quantity {
+			return text
+		}
+		if precise == "" && math.Abs(w/rd-w/exact) < 0.0005 {
+			precise = text
+		}
+	}
+	if precise == "" {
+		return rate
+	}
+	return precise
+}
+
+// shownNumber reads back a length as a writer wrote it, "42,227.3 ft": the number of its
+// first word (thousands separators dropped) and the rest, its unit.
+func shownNumber(text string) (float64, string, bool) {
+	num, unit, _ := strings.Cut(text, " ")
+	x, err := strconv.ParseFloat(strings.ReplaceAll(num, ",", ""), 64)
+	return x, unit, err == nil
 }
 
 // PriceKeys is where the line's price comes from in the price book, as a bid estimator

@@ -365,3 +365,41 @@ func TestBillFrom(t *testing.T) {
 		}
 	}
 }
+
+// TestDescribeRateMultipliesOut (tester 13's finding I): a labour line's text multiplies out
+// in every unit: the work as written over the rate as written gives the line's hours, rounded
+// up to 0.01 h as Bill rounds them. 12,870.87 m (12,870.9 as written) at 60 m per hour is 214.52 h; in feet (1 ft =
+// 0.3048 m exactly, the international foot of 1959) the work is 42,227.3 ft and the rate
+// 196.850… ft per hour, which written 196.9 would give 214.46 h, written 196.85 gives
+// 214.5157…, 214.52 h.
+func TestDescribeRateMultipliesOut(t *testing.T) {
+	t.Parallel()
+	line := BOMLine{Item: "pull cable in duct", Unit: UnitHour, Quantity: 214.52, Work: 12870.87, WorkUnit: UnitM, RatePerHour: 60}
+	feet := func(m float64) string { return strconv.FormatFloat(m/0.3048, 'f', 1, 64) + " ft" }
+	grouped := func(m float64) string { // a writer with thousands separators, as the report's
+		s := strconv.FormatFloat(m/0.3048, 'f', 1, 64)
+		if i := strings.Index(s, "."); i > 3 {
+			s = s[:i-3] + "," + s[i-3:]
+		}
+		return s + " ft"
+	}
+	for _, tc := range []struct {
+		name   string
+		length func(m float64) string
+		want   string
+	}{
+		{"metres", nil, "pull cable in duct: 12870.9 m at 60.0 m per hour"},
+		{"feet", feet, "pull cable in duct: 42227.3 ft at 196.85 ft per hour"},
+		{"feet grouped", grouped, "pull cable in duct: 42,227.3 ft at 196.85 ft per hour"},
+	} {
+		if got := line.Describe(tc.length); got != tc.want {
+			t.Errorf("%s: %q, want %q", tc.name, got, tc.want)
+		}
+	}
+	// A book's rate with more digits than the writer's one decimal: 1000 m at 33.33 m per hour
+	// is 30.003 h, 30.01 h rounded up; written 33.3 it would be 30.04 h.
+	odd := BOMLine{Item: "pull cable in tray", Unit: UnitHour, Quantity: 30.01, Work: 1000, WorkUnit: UnitM, RatePerHour: 33.33}
+	if got, want := odd.Describe(nil), "pull cable in tray: 1000.0 m at 33.33 m per hour"; got != want {
+		t.Errorf("%q, want %q", got, want)
+	}
+}

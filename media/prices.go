@@ -32,6 +32,7 @@ const (
 	PriceBore          = "bore"              // directional bore, per metre
 	PriceRestoration   = "restoration"       // per metre: Name surface
 	PriceAddedDuct     = "added-duct"        // one more duct in a new trench or bore, per metre
+	PriceNewPathway    = "new-pathway"       // per metre of a proposed pathway built neither by trench nor bore: Name its type (aerial, tray, tunnel)
 	PriceLabourHour    = "labour-hour"       // one hour of labour
 	PriceTransceiver   = "transceiver"       // each: Name, the catalog application's price key
 	PricePatchCord     = "patch-cord"        // each, from a panel to the equipment: Medium (optional section, see PriceBook.Has)
@@ -107,6 +108,8 @@ func (k PriceKey) Path() string {
 		return "restoration_per_m." + k.Name
 	case PriceAddedDuct:
 		return "added_duct_per_m"
+	case PriceNewPathway:
+		return "new_pathway_per_m." + k.Name
 	case PriceLabourHour:
 		return "labour.hourly_rate"
 	case PriceTransceiver:
@@ -296,10 +299,22 @@ func (p *PriceBook) Check(needs []PriceKey) error {
 		seen[k] = true
 		if !p.has(k) && !p.NotPriced(k) {
 			errs.Add(&input.Problem{File: p.File, Item: "price " + strconv.Quote(k.String()),
-				Err: input.Errorf(ErrMissingPrice, "missing; add %s", k.Path())})
+				Err: input.Errorf(ErrMissingPrice, "missing; add %s%s", k.Path(), missingHint(k))})
 		}
 	}
 	return sorted(&errs)
+}
+
+// missingHint is what a missing price k is for, when its key alone does not say: a proposed
+// pathway of a type built neither by trench nor bore (tester 13's finding K: such a pathway
+// was priced as turf trench).
+func missingHint(k PriceKey) string {
+	if k.Item != PriceNewPathway {
+		return ""
+	}
+	what := map[string]string{"aerial": "a new pole line (poles, guys and anchors, messenger strand, lashing, make-ready)",
+		"tray": "new cable tray with its supports", "tunnel": "a new utility tunnel (its civil work)"}[k.Name]
+	return fmt.Sprintf(", per metre of %s: the campus has a proposed %s pathway, which the plan builds; or give it status existing if another project builds it", what, k.Name)
 }
 
 // hasAll reports whether the book prices every key of needs, or leaves it out on purpose
@@ -420,6 +435,7 @@ type priceFile struct {
 	DirectionalBorePerM cents                               `yaml:"directional_bore_per_m"`
 	RestorationPerM     map[string]cents                    `yaml:"restoration_per_m"`
 	AddedDuctPerM       cents                               `yaml:"added_duct_per_m"`
+	NewPathwayPerM      map[string]cents                    `yaml:"new_pathway_per_m"`
 	EntranceEach        cents                               `yaml:"building_entrance_each"`
 	FirestopEach        cents                               `yaml:"entrance_firestop_each"`
 	SplicePointEach     cents                               `yaml:"splice_point_each"`
@@ -549,6 +565,10 @@ var (
 	surfaces       = []string{"turf", "asphalt", "concrete"}
 	structureTypes = []string{"pull-box", "handhole", "maintenance-hole"}
 	pathwayTypes   = []string{"duct", "tunnel", "aerial", "buried", "tray"}
+	// BuiltPathwayTypes are the pathway types whose new construction is neither trench nor
+	// bore, each priced per metre at new_pathway_per_m (PriceNewPathway): a pole line, a
+	// cable tray, a utility tunnel.
+	BuiltPathwayTypes = []string{"aerial", "tray", "tunnel"}
 )
 
 var currencyRE = regexp.MustCompile(`^[A-Z]{3}$`)
@@ -682,6 +702,7 @@ func ParsePriceBook(name string, data []byte) (*PriceBook, error) {
 	named("structures_each", PriceStructure, f.StructuresEach, structureTypes)
 	named("trench_per_m", PriceTrench, f.TrenchPerM, surfaces)
 	named("restoration_per_m", PriceRestoration, f.RestorationPerM, surfaces)
+	named("new_pathway_per_m", PriceNewPathway, f.NewPathwayPerM, BuiltPathwayTypes)
 	named("transceivers", PriceTransceiver, f.Transceivers, nil)
 	named("crew_each", PriceCrew, f.CrewEach, CrewTasks)
 	if f.Pos.Has("labour") {

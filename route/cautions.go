@@ -163,11 +163,23 @@ func cautionsOf(r *Result) []Caution {
 	// spans, trenches or bores for ducts added beside full ones, counted laterals), and the
 	// spans of it the campus marks emi high (geo.EMIHigh).
 	var trench, bore, powerWork seenList
+	// Proposed pathways opened that are not dug (items.Dug), by type: a new pole line's
+	// poles are set in augered holes, a new tunnel is dug and then entered; a new tray is
+	// indoor work with none of these cautions.
+	var newPoles, newTunnel seenList
 	laterals := [2]int{} // trenched, bored
 	if e := r.Estimate; e != nil {
 		for _, w := range e.Construction.Pieces {
 			isBore := w.Method == geo.MethodBore
 			switch {
+			case w.Method == geo.TypeAerial:
+				newPoles.add(w.Span)
+				continue
+			case w.Method == geo.TypeTunnel:
+				newTunnel.add(w.Span)
+				continue
+			case w.Method == geo.TypeTray:
+				continue
 			case w.Span == "":
 				laterals[b2i(isBore)]++
 			case isBore:
@@ -233,6 +245,12 @@ func cautionsOf(r *Result) []Caution {
 	if len(buried.ids) > 0 {
 		dig = append(dig, "cable laid along existing direct-buried "+pathways(buried.ids))
 	}
+	if len(newPoles.ids) > 0 {
+		dig = append(dig, "pole holes of the new pole line"+spansText(newPoles.ids, 0))
+	}
+	if len(newTunnel.ids) > 0 {
+		dig = append(dig, "excavation for the new tunnel"+spansText(newTunnel.ids, 0))
+	}
 	if len(dig) > 0 {
 		add(Caution{ID: CautionLocates, Title: "Buried utilities",
 			Where: strings.Join(dig, "; "),
@@ -253,6 +271,9 @@ func cautionsOf(r *Result) []Caution {
 	}
 	if pitsCount != "" {
 		pitsDug = append(pitsDug, pitsCount+": "+namedList(pitNames, shownPits))
+	}
+	if len(newTunnel.ids) > 0 {
+		pitsDug = append(pitsDug, "excavation for the new tunnel"+spansText(newTunnel.ids, 0))
 	}
 	if len(pitsDug) > 0 {
 		add(Caution{ID: CautionTrench, places: places, Title: "Trench and excavation cave-in",
@@ -287,24 +308,49 @@ func cautionsOf(r *Result) []Caution {
 			Text:   "A new cable along a direct-buried route is laid in ground opened beside the cable already there (trench or plough): locate that cable, expose it by hand where the new work comes near it, and lay only cable rated for direct burial. The bill prices the laying at the price book's buried rate; excavation along an existing direct-buried route is not priced apart.",
 			Source: "common practice, no published source"})
 	}
-	if len(aerial.ids) > 0 {
+	if len(aerial.ids) > 0 || len(newPoles.ids) > 0 {
+		var where []string
+		if len(aerial.ids) > 0 {
+			where = append(where, input.Counted(aerialLegs, "leg", "legs")+" on aerial "+pathways(aerial.ids))
+		}
+		text := "Work on poles near overhead power conductors is for qualified workers only, keeping the minimum approach distance for the voltage; test a wood pole before climbing it, use fall protection and insulating gloves when handling strand on poles with energized power conductors, and place the cable in the communication space below the power supply space with the clearances the pole owner and the electrical safety code require. Attaching to a pole takes the owner's permit and any make-ready work."
+		if len(newPoles.ids) > 0 {
+			where = append(where, "new pole line to build"+spansText(newPoles.ids, 0))
+			text += " A new pole line is set and strung by qualified line workers: site every pole and the strand at the clearances from overhead power lines, roads and buildings that the electrical safety code and the power utility require, keep the crane or digger derrick clear of energized lines, and guy its corners and dead ends; its pole holes need utility locates first."
+		}
 		add(Caution{ID: CautionAerial, Title: "Pole lines",
-			Where: input.Counted(aerialLegs, "leg", "legs") + " on aerial " + pathways(aerial.ids),
-			Text:  "Work on poles near overhead power conductors is for qualified workers only, keeping the minimum approach distance for the voltage; test a wood pole before climbing it, use fall protection and insulating gloves when handling strand on poles with energized power conductors, and place the cable in the communication space below the power supply space with the clearances the pole owner and the electrical safety code require. Attaching to a pole takes the owner's permit and any make-ready work.",
+			Where: strings.Join(where, "; "),
+			Text:  text,
 			// 1910.268(n) (overhead lines, pole testing before climbing) seen in a secondary
 			// publication; the NESC clearances and 1926 Subpart V for construction from memory.
 			Source: "in the US, 29 CFR 1910.268(n) (seen in a secondary publication) and, for construction work, 29 CFR 1926 (from memory); NESC (ANSI C2) Part 2 clearances (from memory)"})
 	}
-	if len(tunnel.ids) > 0 {
+	if len(tunnel.ids) > 0 || len(newTunnel.ids) > 0 {
+		var where []string
+		if len(tunnel.ids) > 0 {
+			where = append(where, input.Counted(tunnelLegs, "leg", "legs")+" through tunnel "+pathways(tunnel.ids))
+		}
+		if len(newTunnel.ids) > 0 {
+			where = append(where, "new tunnel to build"+spansText(newTunnel.ids, 0))
+		}
 		add(Caution{ID: CautionTunnel, Title: "Utility tunnels",
-			Where:  input.Counted(tunnelLegs, "leg", "legs") + " through tunnel " + pathways(tunnel.ids),
+			Where:  strings.Join(where, "; "),
 			Text:   "Steam and hot-water lines make tunnels hot (heat stress) and a leaking joint can scald: enter only with the owner's permit and escort, with ventilation, lighting and a way out both ways checked, never alone, and keep cable off steam lines. A tunnel the owner classifies as a permit-required confined space is entered as one.",
 			Source: "in the US, 29 CFR 1910.146 for permit spaces (from memory); common practice, no published source"})
 	}
-	if len(holes.ids) > 0 {
+	if len(holes.ids) > 0 || len(newTunnel.ids) > 0 {
+		var where []string
+		text := "Maintenance holes and vaults are permit-required confined spaces: test the atmosphere, ventilate, and keep an attendant at the opening."
+		if len(holes.ids) > 0 {
+			where = append(where, input.Counted(len(holes.ids), "maintenance hole", "maintenance holes")+" passed: "+idList(holes.ids))
+		}
+		if len(newTunnel.ids) > 0 {
+			where = append(where, "new tunnel to build"+spansText(newTunnel.ids, 0))
+			text += " A tunnel being built is entered as one until the competent person has classified it: its atmosphere tested before and during the work, ventilated, with a way out kept clear."
+		}
 		add(Caution{ID: CautionConfined, Title: "Confined spaces",
-			Where:  input.Counted(len(holes.ids), "maintenance hole", "maintenance holes") + " passed: " + idList(holes.ids),
-			Text:   "Maintenance holes and vaults are permit-required confined spaces: test the atmosphere, ventilate, and keep an attendant at the opening.",
+			Where:  strings.Join(where, "; "),
+			Text:   text,
 			Source: "in the US, 29 CFR 1910.146 and 1910.268(o) (from memory)"})
 	}
 	if fibre > 0 {

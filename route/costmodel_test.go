@@ -107,7 +107,7 @@ func routeDependent(pb *media.PriceBook, item string, price, rate media.PriceKey
 			}
 		}
 		return false
-	case media.PriceCable, media.PriceInnerduct, media.PriceTrench, media.PriceRestoration, media.PriceBore, media.PriceAddedDuct:
+	case media.PriceCable, media.PriceInnerduct, media.PriceTrench, media.PriceRestoration, media.PriceBore, media.PriceAddedDuct, media.PriceNewPathway:
 		return true
 	case media.PriceStructure:
 		return item == "handhole where new pathway joins the network" || item == "handhole where a route turns between pathways" ||

@@ -38,8 +38,9 @@ func newWorkCampus(lateral bool, pathways ...[]float64) string {
 	}
 	for i, p := range pathways {
 		props := `"type":"duct","status":"proposed","method":"trench","duct_mm":100`
-		if len(p)%2 == 1 { // a leading 0 marks an existing duct, a leading 1 proposed aerial
-			props = map[float64]string{0: `"type":"duct","spare_ducts":2,"duct_mm":100`, 1: `"type":"aerial","status":"proposed"`}[p[0]]
+		if len(p)%2 == 1 { // a leading 0 marks an existing duct, a leading 1 proposed aerial, 2 a proposed tunnel
+			props = map[float64]string{0: `"type":"duct","spare_ducts":2,"duct_mm":100`, 1: `"type":"aerial","status":"proposed"`,
+				2: `"type":"tunnel","status":"proposed"`}[p[0]]
 			p = p[1:]
 		}
 		f = append(f, fmt.Sprintf(`{"type":"Feature","properties":{"kind":"pathway","id":"P%d",%s},"geometry":{"type":"LineString","coordinates":%s}}`,

@@ -204,7 +204,8 @@ func Check(s *site.Site, p *plan.Plan, eng *media.Engine) error {
 	return err
 }
 
-// CheckPlan adds to rep, the campus's check report, what plan p finds before routing: of the
+// CheckPlan adds to rep, the campus's check report, what plan p finds before routing: the
+// buildings whose links it skips (Site.SkippedFor); of the
 // buildings reached only through another, those its links meet (Site.ThroughFor: one
 // served from an ic it reaches directly is fine); with allow_new_trench false, the buildings
 // reached only over proposed pathways; and the diverse links that can have no second route
@@ -216,10 +217,13 @@ func CheckPlan(s *site.Site, p *plan.Plan, rep *site.CheckReport) error {
 	if w := s.HubOverride(p); w != "" && rep.Hub == p.Hub {
 		rep.Warnings = append(rep.Warnings, w)
 	}
-	if rep.Hub != "" && (len(rep.ThroughOnly) > 0 || len(rep.Unreachable) > 0) {
+	if rep.Hub != "" {
 		if links, _, errs := s.Links(p, rep.Hub); len(errs) == 0 {
-			s.ThroughFor(rep, links) // bad links are Check's to report
-			s.ServedFor(rep, links)
+			s.SkippedFor(rep, links)
+			if len(rep.ThroughOnly) > 0 || len(rep.Unreachable) > 0 {
+				s.ThroughFor(rep, links) // bad links are Check's to report
+				s.ServedFor(rep, links)
+			}
 		}
 	}
 	if rep.Hub != "" && !p.Design.AllowNewTrench {

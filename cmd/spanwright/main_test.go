@@ -67,7 +67,7 @@ func TestCheckDemo(t *testing.T) {
 		t.Fatalf("check demo: exit %d: %s", code, msg)
 	}
 	golden(t, "check_demo.txt", []byte(out))
-	for _, want := range []string{"buildings   30 (mc 1, ic 2, served 27)", "hub         ADM: every building can reach it", `pathways "SR-3" and "T-5" cross`} {
+	for _, want := range []string{"buildings   30 (mc 1, ic 2, served 26, skipped 1: SHD)", "hub         ADM: every building can reach it", `pathways "SR-3" and "T-5" cross`} {
 		if !strings.Contains(out, want) {
 			t.Errorf("check demo: output lacks %q", want)
 		}

@@ -214,6 +214,10 @@ type Construction struct {
 	// its pieces' metres added up and rounded to 0.1 m (listPieces).
 	TrenchM map[string]float64
 	BoreM   float64
+	// PathwayM is the proposed pathways opened that are not dug (items.Dug: a pole line, a
+	// cable tray, a utility tunnel), by pathway type, each the bill's line of
+	// items.NewPathway, to 0.1 m as TrenchM; not in NewM.
+	PathwayM map[string]float64
 	// NewM is all new civil work in metres, trenched or bored: the sum of the bill's trench
 	// and bore lines (TrenchM and BoreM, each to 0.1 m as the bill rounds a line), which the
 	// Pieces' ListedM add up to (listPieces); computed once here and printed from here
@@ -363,6 +367,7 @@ type run struct {
 // Keys of run.newFrom beside the trench surfaces.
 const (
 	keyBore      = "\x00bore"
+	keyPathway   = "\x00new pathway " // and the pathway type: a proposed pathway that is not dug
 	keyAddedDuct = "\x00added duct"
 	keyDuctWall  = "\x00added duct's wall"
 	keyHoleWall  = "\x00new duct's maintenance hole wall"
@@ -1174,6 +1179,13 @@ func (c *Construction) newWork(d plan.Design, sp *geo.Span, method string, from 
 		c.Pieces = append(c.Pieces, w)
 		return
 	}
+	if method != geo.MethodTrench { // a pathway that is not dug, built as its type (items.MethodOf)
+		c.PathwayM[method] += sp.LengthM
+		from[keyPathway+method] = append(from[keyPathway+method], source)
+		w.line = keyPathway + method
+		c.Pieces = append(c.Pieces, w)
+		return
+	}
 	sf := items.SurfaceOf(d, sp)
 	c.TrenchM[sf] += sp.LengthM
 	from[sf] = append(from[sf], source)
@@ -1190,8 +1202,8 @@ func (c *Construction) newWork(d plan.Design, sp *geo.Span, method string, from 
 type WorkPiece struct {
 	Span               string // the span; "" for a lateral
 	Building, Entrance string // a counted lateral's building and entrance; "" for a span
-	Method             string // geo.MethodBore, else trenched
-	Surface            string // a trench's surface (items.SurfaceOf); "" for a bore
+	Method             string // geo.MethodTrench, geo.MethodBore, or a pathway type that is not dug (items.MethodOf)
+	Surface            string // a trench's surface (items.SurfaceOf); "" for a bore or a pathway not dug
 	LengthM            float64
 	// ListedM is LengthM to 0.1 m as every output lists the piece (plan.gpkg's
 	// new_construction, the report's work on an assumed surface), apportioned so that the
@@ -1200,7 +1212,7 @@ type WorkPiece struct {
 	ListedM float64
 
 	source  string // the bill's from text
-	line    string // the bill line: the surface, or keyBore
+	line    string // the bill line: the surface, keyBore, or keyPathway and the type
 	assumed bool   // priced on design.assumed_surface (items.SurfaceAssumed)
 }
 
@@ -1226,9 +1238,12 @@ func (c *Construction) listPieces() {
 		byLine[w.line] = append(byLine[w.line], i)
 	}
 	c.NewM, c.LateralM, c.Assumed = 0, 0, nil
+	typeOf := func(line string) (string, bool) { return strings.CutPrefix(line, keyPathway) }
 	for _, l := range lines {
 		total := c.BoreM
-		if l != keyBore {
+		if t, ok := typeOf(l); ok {
+			total = c.PathwayM[t]
+		} else if l != keyBore {
 			total = c.TrenchM[l]
 		}
 		idx := byLine[l]
@@ -1259,7 +1274,9 @@ func (c *Construction) listPieces() {
 		}
 		// The line itself as billed: its metres to 0.1 m, so that the bill's quantity, and
 		// the feet an imperial bill converts from it, are those of the listed pieces.
-		if l == keyBore {
+		if t, ok := typeOf(l); ok {
+			c.PathwayM[t] = float64(lineDM) / 10
+		} else if l == keyBore {
 			c.BoreM = float64(lineDM) / 10
 		} else {
 			c.TrenchM[l] = float64(lineDM) / 10
@@ -1267,7 +1284,9 @@ func (c *Construction) listPieces() {
 	}
 	c.pieceOfSpan, c.pieceOfLateral = map[string]int{}, map[[2]string]int{}
 	for i, w := range c.Pieces {
-		c.NewM += w.ListedM
+		if _, ok := typeOf(w.line); !ok {
+			c.NewM += w.ListedM
+		}
 		if w.Span == "" {
 			c.LateralM += w.ListedM
 			c.pieceOfLateral[[2]string{w.Building, w.Entrance}] = i
@@ -1306,7 +1325,7 @@ func (c *Construction) LateralPiece(building, entrance string) (WorkPiece, bool)
 // network at a junction without a structure.
 func (r *run) construction() {
 	s := r.Site
-	c := Construction{TrenchM: map[string]float64{}}
+	c := Construction{TrenchM: map[string]float64{}, PathwayM: map[string]float64{}}
 	r.newFrom = map[string][]string{}
 	var design plan.Design
 	if r.Plan != nil {
@@ -1693,6 +1712,9 @@ func (r *run) quantities() {
 	}
 	if con.BoreM > 0 { // a price book without bores stays valid while no plan bores
 		e.Quantities = append(e.Quantities, one(items.Bore(con.BoreM), r.newFrom[keyBore]))
+	}
+	for _, t := range slices.Sorted(maps.Keys(con.PathwayM)) {
+		e.Quantities = append(e.Quantities, one(items.NewPathway(t, con.PathwayM[t]), r.newFrom[keyPathway+t]))
 	}
 	e.Quantities = append(e.Quantities, one(items.AddedDuct(con.AddedDuctM), r.newFrom[keyAddedDuct]),
 		one(items.JoinHandholes(len(con.NewJunctions)), fromJunctions(con.NewJunctions)))

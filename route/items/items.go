@@ -141,20 +141,64 @@ func Bore(metres float64) media.Quantity {
 		Price: media.PriceKey{Item: media.PriceBore}}
 }
 
-// NewWork is new civil work along metres of a span built by method: a bore, or trench and
-// restoration of its surface (SurfaceOf).
+// NewWork is new work along metres of a span built by method (MethodOf): a bore, trench and
+// restoration of its surface (SurfaceOf), or, for a pathway that is not dug (Dug), that
+// pathway built new (NewPathway, the method being its type).
 func NewWork(d plan.Design, sp *geo.Span, method string, metres float64) []media.Quantity {
-	if method == geo.MethodBore {
+	switch method {
+	case geo.MethodBore:
 		return []media.Quantity{Bore(metres)}
+	case geo.MethodTrench:
+		return Trench(SurfaceOf(d, sp), metres)
 	}
-	return Trench(SurfaceOf(d, sp), metres)
+	return []media.Quantity{NewPathway(method, metres)}
 }
 
-// MethodOf is how new work along a span is built: the campus's method when it gives one;
-// otherwise, when the price book prices both, the cheaper per metre of trench with the
-// restoration of the span's surface and directional bore (trench on a tie); otherwise trench.
-// The optimizer's problem and the bill both ask here, so they build the same way.
+// Dug reports whether new work of pathway type typ is dug, trenched or bored: a duct (and a
+// counted lateral, which is one) or a direct-buried pathway. A proposed pole line, cable tray
+// or utility tunnel is built otherwise (NewPathway), and is no new buried work (no locates bid
+// item per new buried metre, no turf to restore).
+func Dug(typ string) bool { return typ == geo.TypeDuct || typ == geo.TypeBuried }
+
+// newPathwayItems are the bill's lines of NewPathway, by pathway type.
+var newPathwayItems = map[string]string{
+	geo.TypeAerial: "new pole line: poles, guys and anchors, messenger strand, lashing",
+	geo.TypeTray:   "new cable tray with its supports",
+	geo.TypeTunnel: "new utility tunnel",
+}
+
+// NewPathway is metres of a proposed pathway of type typ that is not dug (Dug): a pole line,
+// a cable tray or a utility tunnel, each priced per metre at new_pathway_per_m by its type
+// (media.PriceNewPathway; a book without the type's price stops the plan, naming the key).
+// README, "Pathway types".
+func NewPathway(typ string, metres float64) media.Quantity {
+	item, ok := newPathwayItems[typ]
+	if !ok {
+		item = "new " + typ + " pathway"
+	}
+	return media.Quantity{Category: media.CategoryConstruction, Item: item, Unit: media.UnitM, Amount: metres,
+		Price: media.PriceKey{Item: media.PriceNewPathway, Name: typ}}
+}
+
+// NewBuriedM is the metres of new buried work (the bid items' per_m_new_buried basis) that
+// opening span sp takes: its length when it is dug (Dug), else none.
+func NewBuriedM(sp *geo.Span) float64 {
+	if !Dug(sp.Type) {
+		return 0
+	}
+	return sp.LengthM
+}
+
+// MethodOf is how new work along a span is built, the one decision of it: a pathway that is
+// not dug (Dug: aerial, tray, tunnel) is built as its type, whatever the campus's method;
+// else the campus's method when it gives one; otherwise, when the price book prices both,
+// the cheaper per metre of trench with the restoration of the span's surface and directional
+// bore (trench on a tie); otherwise trench. The optimizer's problem and the bill both ask
+// here, so they build the same way.
 func MethodOf(p *media.PriceBook, d plan.Design, sp *geo.Span) string {
+	if !Dug(sp.Type) {
+		return sp.Type
+	}
 	if sp.MethodSet {
 		return sp.Method
 	}
@@ -410,9 +454,9 @@ func SurfaceOf(d plan.Design, sp *geo.Span) string {
 
 // SurfaceAssumed reports whether new work on span sp built by method is priced on an assumed
 // surface (SurfaceOf): a trench along a span the campus gives no surface. A bore restores
-// no surface.
+// no surface, nor does a pathway built new that is not dug (NewPathway).
 func SurfaceAssumed(sp *geo.Span, method string) bool {
-	return method != geo.MethodBore && sp.Surface == ""
+	return method == geo.MethodTrench && sp.Surface == ""
 }
 
 // KeysOf lists the prices and rates quantities need.

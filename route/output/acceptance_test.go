@@ -33,7 +33,7 @@ func TestLinksAcceptanceColumns(t *testing.T) {
 		}
 		return i
 	}
-	if want := append(append(scheduleHead(WriteOptions{}), acceptanceHead()...), "mid_span_splices_at"); !slices.Equal(head[len(head)-len(want):], want) {
+	if want := append(append(scheduleHead(WriteOptions{}), acceptanceHead()...), "mid_span_splices_at", "safety"); !slices.Equal(head[len(head)-len(want):], want) {
 		t.Errorf("last columns %q, want the schedule's, the acceptance columns, then the joins' places %q", head[len(head)-len(want):], want)
 	}
 	for i := range r.Legs {

@@ -25,7 +25,7 @@ const (
 	rowOverhead    = "overhead"
 	rowTax         = "tax"
 	rowTotal       = "total"
-	rowNote        = "note" // after the total when it prices only some legs (PricedNoteOf)
+	rowNote        = "note" // after the total: when it prices only some legs (PricedNoteOf), and the safety cautions (SafetyNote)
 )
 
 // bomUnit is a BOM line's unit, quantity and unit price at the output edge, and the
@@ -167,6 +167,9 @@ func bomCSV(out io.Writer, r *route.Result, opt WriteOptions) error {
 		media.FormatCents(b.TaxBaseCents), media.FormatCents(b.TaxCents), "", markupKey + "tax"})
 	w.Write([]string{rowTotal, b.Label, "", "", "", media.FormatCents(b.TotalCents), "", ""})
 	if note := PricedNoteOf(r); note != "" {
+		w.Write([]string{rowNote, note, "", "", "", "", "", ""})
+	}
+	if note := SafetyNote(r); note != "" {
 		w.Write([]string{rowNote, note, "", "", "", "", "", ""})
 	}
 	return w.Flush()

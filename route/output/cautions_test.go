@@ -1,6 +1,7 @@
 package output
 
 import (
+	"context"
 	"encoding/json"
 	"strings"
 	"testing"
@@ -45,5 +46,39 @@ func TestSummaryCautions(t *testing.T) {
 	r2.Cautions = nil
 	if data, _ := json.Marshal(Summarize(&r2)); !json.Valid(data) || !strings.Contains(string(data), `"cautions":[]`) {
 		t.Errorf("a plan calling for no caution: want \"cautions\": [], got %s", data)
+	}
+}
+
+// TestCSVSafetyPointer (tester 13's finding H): the CSVs a crew and an estimator are handed
+// point to the plan's cautions, and stay one table each for a CSV reader: links.csv in its
+// last column, the same on every row, bom.csv in a closing note row of the bill's eight
+// columns; the pointer counts and names every caution, the files that say what to do, and
+// defers to the codes and the authority having jurisdiction.
+func TestCSVSafetyPointer(t *testing.T) {
+	r := testplan.DemoResult(t)
+	note := SafetyNote(r)
+	for _, want := range []string{"safety: " + Counted(len(r.Cautions), "caution", "cautions"), "report.html (Safety)", "summary.json (cautions)",
+		"bom.xlsx (sheet safety)", "authority having jurisdiction", strings.ToLower(r.Cautions[len(r.Cautions)-1].Title)} {
+		if !strings.Contains(note, want) {
+			t.Errorf("safety note %q lacks %q", note, want)
+		}
+	}
+	files, err := Files(context.Background(), r, WriteOptions{SkipWorkbook: true, SkipGeoPackage: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	links := testplan.ReadCSV(t, testplan.FileOf(t, files, "links.csv"))
+	head := links[0]
+	if head[len(head)-1] != "safety" {
+		t.Errorf("links.csv ends with %q, want safety", head[len(head)-1])
+	}
+	for _, row := range links[1:] {
+		if len(row) != len(head) || row[len(row)-1] != note {
+			t.Errorf("links.csv row %s: %d cells (header %d), last %q", row[0], len(row), len(head), row[len(row)-1])
+		}
+	}
+	bom := testplan.ReadCSV(t, testplan.FileOf(t, files, "bom.csv"))
+	if last := bom[len(bom)-1]; len(last) != len(bom[0]) || last[0] != rowNote || last[1] != note {
+		t.Errorf("bom.csv ends with %q, want the note row %q", last, note)
 	}
 }

@@ -171,6 +171,21 @@ func TestGeoPackageGDAL(t *testing.T) {
 	if got, want := num(LayerEntrances, "SUM(CASE WHEN used AND via = 'lateral' THEN lateral_m ELSE 0 END)"), num(LayerConstruction, "SUM(CASE WHEN work = 'lateral' THEN length_m ELSE 0 END)"); math.Abs(got-want) > 1e-6 || want == 0 {
 		t.Errorf("laterals: entrances used %.1f m, new construction %.1f m", got, want)
 	}
+	// The ducts laid, as the bill lays them (tester 13's finding B: counted laterals read 0
+	// while the bill laid new_ducts in each): Σ length × added_ducts is the bill's added
+	// duct line, within the 0.05 m each listed piece may be from its drawn length, per duct.
+	billDuct := 0.0
+	for _, l := range r.Estimate.BOM.Lines {
+		if l.Item == "added duct" {
+			billDuct = l.Quantity
+		}
+	}
+	if got, ducts := num(LayerConstruction, "SUM(length_m * added_ducts)"), num(LayerConstruction, "SUM(added_ducts)"); math.Abs(got-billDuct) > 0.05*ducts+0.05 || billDuct == 0 {
+		t.Errorf("new construction: %.1f m of duct laid, the bill's added duct %.1f m", got, billDuct)
+	}
+	if got := num(LayerConstruction, "MIN(CASE WHEN work = 'lateral' THEN added_ducts END)"); int(got) != r.Plan.Design.NewDucts {
+		t.Errorf("new construction: a lateral laid with %v ducts, want new_ducts %d", got, r.Plan.Design.NewDucts)
+	}
 	var legCents int64
 	feasible := 0
 	for _, l := range r.Legs {

@@ -16,6 +16,7 @@ import (
 	"spanwright/route/estimate"
 	"spanwright/route/fileset"
 	"spanwright/route/internal/ctxio"
+	"spanwright/route/items"
 	"spanwright/route/routing"
 )
 
@@ -312,7 +313,9 @@ func planLayers(ctx context.Context, r *route.Result, sts func() (structureList,
 		if !ok {
 			return nil, fmt.Errorf("lateral to entrance %s of building %s: not in the estimate's pieces", en.Entrance, en.Building)
 		}
-		add(LayerConstruction, line, nil, nil, WorkLateral, pc.Method, surfaceOf(pc), pc.ListedM, 0, en.Entrance)
+		// Its ducts as billed (estimate's construction): the design's, items.NewDucts (tester
+		// 13's finding B: 0 here while the bill laid them).
+		add(LayerConstruction, line, nil, nil, WorkLateral, pc.Method, surfaceOf(pc), pc.ListedM, items.NewDucts(r.Design()), en.Entrance)
 	}
 
 	// Handholes the plan adds: where routes join or turn, then the pulling plan's.
@@ -581,9 +584,10 @@ type geoSpan struct {
 	lengthM float64
 }
 
-// surfaceOf is a piece of new work's surface for new_construction: NULL for a bore.
+// surfaceOf is a piece of new work's surface for new_construction: NULL for a bore and for
+// a pathway that is not dug (items.Dug), which restores none.
 func surfaceOf(pc estimate.WorkPiece) any {
-	if pc.Method == geo.MethodBore {
+	if pc.Method != geo.MethodTrench {
 		return nil
 	}
 	return pc.Surface

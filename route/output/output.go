@@ -296,6 +296,9 @@ func linksCSV(out io.Writer, r *route.Result, opt WriteOptions) error {
 	// Last, where the mid-span joins go (SplicesText, as bom.xlsx's links sheet): the
 	// structures table names the legs joined at each.
 	head = append(head, "mid_span_splices_at")
+	// Last, the plan's safety cautions pointed to, the same on every row (SafetyNote).
+	head = append(head, "safety")
+	safety := SafetyNote(r)
 	w.Write(head)
 	db := func(x float64) string { return strconv.FormatFloat(x, 'f', 2, 64) }
 	for i := range r.Legs {
@@ -333,7 +336,7 @@ func linksCSV(out io.Writer, r *route.Result, opt WriteOptions) error {
 		if l.Feasible {
 			joins = SplicesText(opt, l.Cable.Splices)
 		}
-		w.Write(append(append(row, acceptanceText(l)...), joins))
+		w.Write(append(append(row, acceptanceText(l)...), joins, safety))
 	}
 	return w.Flush()
 }
@@ -652,6 +655,22 @@ func NewWorkParts(c estimate.Construction, length func(m float64) string) string
 	return strings.Join(of, "; ")
 }
 
+// NewPathwayText is the proposed pathways the plan opens that are not dug
+// (estimate.Construction.PathwayM, outside the new trench figure), with lengths written by
+// length: "new pole line 751.3 m, new cable tray 12.0 m", "" when none.
+func NewPathwayText(c estimate.Construction, length func(m float64) string) string {
+	names := map[string]string{geo.TypeAerial: "new pole line", geo.TypeTray: "new cable tray", geo.TypeTunnel: "new utility tunnel"}
+	var out []string
+	for _, t := range slices.Sorted(maps.Keys(c.PathwayM)) {
+		n, ok := names[t]
+		if !ok {
+			n = "new " + t + " pathway"
+		}
+		out = append(out, n+" "+length(c.PathwayM[t]))
+	}
+	return strings.Join(out, ", ")
+}
+
 // TotalsOf adds up the totals of r.
 func TotalsOf(r *route.Result) Totals {
 	t := Totals{NewM: newWorkM(r.Estimate), CableM: cutOf(WriteOptions{}, r).all()}
@@ -918,6 +937,9 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 	if of := NewWorkParts(c, length); of != "" {
 		bored = " (" + of + ")"
 	}
+	if built := NewPathwayText(c, length); built != "" {
+		bored += ", " + built
+	}
 	taps := ""
 	if len(c.TapJunctions) > 0 {
 		taps = fmt.Sprintf(", %d where laterals tap a duct or a pole line", len(c.TapJunctions))
@@ -1013,6 +1035,20 @@ func cautionLine(r *route.Result, bom bool) string {
 	}
 	return fmt.Sprintf("safety: %s for this plan's work: %s; %s say what to do (local codes and the authority having jurisdiction prevail)", Counted(len(r.Cautions), "caution", "cautions"),
 		strings.ToLower(strings.Join(route.CautionTitles(r.Cautions), ", ")), where)
+}
+
+// SafetyNote points a reader of the CSVs (the crew's cable schedule links.csv, the estimator's
+// bom.csv) to the plan's safety cautions, which only the files for people and summary.json
+// carry: how many, their titles and where they are written, with the planning aid's
+// deference to the codes; "" when the plan calls for none. links.csv gives it in its last
+// column, the same on every row, and bom.csv in a closing note row, so that a CSV reader
+// still gets one table of the same columns (tester 13's finding H).
+func SafetyNote(r *route.Result) string {
+	if len(r.Cautions) == 0 {
+		return ""
+	}
+	return fmt.Sprintf("safety: %s for this plan's work: %s; summary.json (cautions) and, where written, report.html (Safety) and bom.xlsx (sheet %s) say what to do; spanwright is a planning aid: local codes and the authority having jurisdiction prevail",
+		Counted(len(r.Cautions), "caution", "cautions"), strings.ToLower(strings.Join(route.CautionTitles(r.Cautions), ", ")), SheetSafety)
 }
 
 // diverseLine is the terminal's line on the links that asked for a diverse route: how many
@@ -1295,7 +1331,15 @@ func CannotServe(rep site.CheckReport) []string {
 func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
 	t := escape.Terminal // ids and names from the input, each within a line
 	u := UnitsOf(opt)
-	fmt.Fprintf(w, "buildings   %d (mc %d, ic %d, served %d)\n", r.Buildings, r.ByRole["mc"], r.ByRole["ic"], r.ByRole["served"])
+	skipped := ""
+	if len(r.Skipped) > 0 { // given a plan: buildings whose links it skips, not served
+		shown, more := input.Shown(slices.Clone(r.Skipped), 6)
+		for i := range shown {
+			shown[i] = t(shown[i])
+		}
+		skipped = fmt.Sprintf(", skipped %d: %s%s", len(r.Skipped), strings.Join(shown, " "), more)
+	}
+	fmt.Fprintf(w, "buildings   %d (mc %d, ic %d, served %d%s)\n", r.Buildings, r.ByRole["mc"], r.ByRole["ic"], r.ByRole["served"], skipped)
 	fmt.Fprintf(w, "structures  %d\n", r.Structures)
 	fmt.Fprintf(w, "junctions   %d\n", r.Junctions)
 	fmt.Fprintf(w, "spans       %d\n", r.Spans)

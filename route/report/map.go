@@ -649,6 +649,8 @@ func overRoutes(r *route.Result, p *projection, opt Options) (carriers, works []
 			}
 			if method == geo.MethodBore {
 				cls, what = "nw-bore", "new directional bore"
+			} else if method != geo.MethodTrench { // not dug (items.Dug): built as its type
+				what = "new " + method + " pathway, not dug"
 			}
 			if opened[s.ID] {
 				what += ", the proposed pathway this plan builds"

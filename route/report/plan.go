@@ -432,10 +432,16 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 	}
 	v.CSS = template.CSS(styleCSS)
 	names := map[string]string{}
+	ends := map[string]bool{} // the buildings at an end of a leg of the plan
+	for i := range r.Legs {
+		ends[r.Legs[i].Link.From], ends[r.Legs[i].Link.To] = true, true
+	}
 	for _, b := range r.Site.Campus.Buildings {
 		names[b.ID] = b.Name
 		role := "served"
 		switch {
+		case b.Role == "" && b.ID != r.Hub && !ends[b.ID]:
+			role = "not served (link skipped)" // tester 13's finding A
 		case b.ID == r.Hub:
 			role = "hub (main cross-connect)"
 		case b.Role == "ic":

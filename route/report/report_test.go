@@ -450,7 +450,9 @@ func TestBillInUnitsWithSeparators(t *testing.T) {
 		t.Fatalf("demo: no labour line of 1,000 m or more: %+v", pull)
 	}
 	ft := group(fmt.Sprintf("%.1f", pull.Work/0.3048))
-	if want := fmt.Sprintf("%s: %s ft at %.1f ft per hour", pull.Item, ft, pull.RatePerHour/0.3048); !strings.Contains(html, want) {
+	// The rate with the decimals that make the work over it give the line's hours (media's
+	// Describe): 60 m per hour is 196.850… ft, written 196.85 (tester 13's finding I).
+	if want := fmt.Sprintf("%s: %s ft at %.2f ft per hour", pull.Item, ft, pull.RatePerHour/0.3048); !strings.Contains(html, want) {
 		t.Errorf("report lacks %q", want)
 	}
 	if !strings.Contains(ft, ",") {

@@ -387,7 +387,7 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 		}
 		if sp.Status == geo.StatusProposed {
 			open := items.Opening(d, sp, items.MethodOf(m.prices, d, sp))
-			e.Proposed, e.FixedCents = true, m.cents(open...)+m.bidPer(media.BidBases{NewBuriedM: 1}, sp.LengthM)
+			e.Proposed, e.FixedCents = true, m.cents(open...)+m.bidPer(media.BidBases{NewBuriedM: 1}, items.NewBuriedM(sp))
 			if items.EntersHoles(sp.Type) {
 				e.FixedCents += m.cents(items.HoleEntries(items.HoleWalls(s, sp))...) // into existing maintenance holes
 			}

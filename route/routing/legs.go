@@ -152,16 +152,14 @@ func legsOf(s *site.Site, cm *Model, lay *layout, prob *optimize.Problem, rt *op
 		return legs
 	}
 	fillLeg(s, cm, lay, &primary, rt.Primary, rt.Medium, info, built)
-	// Each leg carries the construction on its own edges (optimize.Leg.ConstructionCents): the
-	// route's shares of new trench, added duct and handholes, split by the leg that uses them.
-	primary.Cost.ConstructionCents += rt.Primary.ConstructionCents
+	// Each leg's share of new trench, added duct and handholes is set once every leg is
+	// routed (shareConstruction).
 	legs := []Leg{primary}
 	if l.Diverse {
 		d := base
 		d.Name = LegDiverse
 		if len(rt.Secondary.Hops) > 0 {
 			fillLeg(s, cm, lay, &d, rt.Secondary, rt.Medium, info, built)
-			d.Cost.ConstructionCents += rt.Secondary.ConstructionCents
 			// Both legs leave a building with one entrance by it: diverse outside, not there.
 			for _, b := range []string{l.To, l.From} {
 				if e, one := lay.endEntry[b]; one && d.Feasible {

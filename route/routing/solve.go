@@ -204,13 +204,14 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 	// several carry its charge: a leg's cost does not depend on whether its building has an
 	// entrance it does not use.
 	through := legsThrough(r.Legs)
+	rank := shareRank(s, r.Legs)
 	tapUsers := map[string][]int{} // the junctions of singleTaps, each with the legs it serves
 	for _, e := range r.Entrances {
 		if e.Single {
 			c := m.entranceCents(geo.Entry{ID: e.Entrance, Access: geo.Access{LateralM: e.LateralM}, Built: e.Built, PoleRiser: e.PoleRiser}) // its prices checked by problem
 			r.ConstantCents += c
 			users := through[[2]string{e.Building, e.Entrance}]
-			shareAmong(r.Legs, c, users)
+			shareAmong(r.Legs, rank, c, users)
 			if e.Tap != "" {
 				tapUsers[e.Tap] = append(tapUsers[e.Tap], users...)
 			}
@@ -220,7 +221,7 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 		r.ConstantCents += hh
 		users := tapUsers[j]
 		slices.Sort(users)
-		shareAmong(r.Legs, hh, slices.Compact(users))
+		shareAmong(r.Legs, rank, hh, slices.Compact(users))
 	}
 	r.ObjectiveCents += r.ConstantCents + hh*unpaid
 	if r.LowerBoundCents >= 0 {
@@ -290,6 +291,7 @@ func (m *Model) measure(ctx context.Context, s *site.Site, lay *layout, prob *op
 	if w := unsettledWarning(with, builds); w != "" {
 		r.Warnings = append(r.Warnings, w)
 	}
+	shareConstruction(s, prob, sol, legs, r)
 	return legs, unpaid, nil
 }
 
@@ -379,14 +381,6 @@ func legsThrough(legs []Leg) map[[2]string][]int {
 		}
 	}
 	return out
-}
-
-// shareAmong adds cents to the construction of the legs users (indexes into legs, ascending),
-// as the optimizer splits a charge among its users (optimize.ShareCents).
-func shareAmong(legs []Leg, cents int64, users []int) {
-	for i, u := range users {
-		legs[u].Cost.ConstructionCents += optimize.ShareCents(cents, len(users), i)
-	}
 }
 
 // singleTaps lists, each once, the junctions where the counted laterals of the used entrances

@@ -9,8 +9,11 @@ import (
 
 // CheckReport is what `spanwright check` prints about a campus.
 type CheckReport struct {
-	Buildings   int
-	ByRole      map[string]int // "mc", "ic", "served"
+	Buildings int
+	ByRole    map[string]int // "mc", "ic", "served"; given a plan, "skipped" (SkippedFor) out of "served"
+	// Skipped lists, given a plan, the buildings of role served that no link of the plan
+	// serves or comes from (their links skipped: `skip: true`), sorted; nil without a plan.
+	Skipped     []string
 	Pathways    []PathwayTally // by type then status
 	Structures  int
 	Junctions   int
@@ -128,6 +131,28 @@ func (s *Site) Check(hub string) CheckReport {
 		r.Warnings = append(r.Warnings, w.File+": "+w.Feature+": "+w.Message)
 	}
 	return r
+}
+
+// SkippedFor sets the report's Skipped, given a plan's links: the buildings of role served
+// (no role) at neither end of any link, their default link skipped, which the plan does not
+// serve; they are counted under "skipped" and no longer under "served" (tester 13's finding A:
+// a skipped building was counted served).
+func (s *Site) SkippedFor(r *CheckReport, links []Link) {
+	ends := map[string]bool{}
+	for _, l := range links {
+		ends[l.From], ends[l.To] = true, true
+	}
+	r.Skipped = nil
+	for _, b := range s.Campus.Buildings {
+		if b.Role == "" && b.ID != r.Hub && !ends[b.ID] {
+			r.Skipped = append(r.Skipped, b.ID)
+		}
+	}
+	slices.Sort(r.Skipped)
+	if n := len(r.Skipped); n > 0 {
+		r.ByRole["served"] -= n
+		r.ByRole["skipped"] = n
+	}
 }
 
 // ServedFor sets the report's Unserved: the buildings cut off from the hub that no link of
