@@ -134,8 +134,19 @@ func TestJoinsCountedOnce(t *testing.T) {
 				// Where a reel between two joins carries 60 m of route or more: with 150 m reels
 				// and 60 m of slack a cable end it carries 22.9 m, and joins that close are the
 				// reels' own.
+				//
+				// Not counted: a splice point to build at its reel's end followed by a join in a
+				// structure beyond that reel's waste (it could not be carried on there). Same joins
+				// and points as any other placement, but the piece between is short: the placement
+				// puts points at reels' ends, and evening the pieces per leg split points two legs
+				// shared on the bill (review 18 F1: 68 -> 69 on the demo at reel 120/slack 15).
+				// Seen on the demo at reel 100 and 120 once the eject move changed its routes.
 				for k := 1; reel > 0 && reel/1.05-2*slack >= 60 && k < len(c.Splices); k++ {
-					if gap := c.Splices[k].ChannelM - c.Splices[k-1].ChannelM; gap < 20 {
+					gap := c.Splices[k].ChannelM - c.Splices[k-1].ChannelM
+					if c.Splices[k-1].NoStructure && !c.Splices[k].NoStructure && gap > reel-reel/1.05 {
+						continue
+					}
+					if gap < 20 {
 						t.Errorf("reel %g slack %g %s %s: joins %d and %d %.1f m apart (%v)", reel, slack, l.Link.ID, l.Name, k, k+1, gap, c.Splices)
 					}
 				}

@@ -80,21 +80,34 @@ func (sv *solver) wantedRoom() []roomWish {
 			break
 		}
 		o := c.opt
-		stay, barred := sv.weigh(d, c)
-		if barred > 0 {
-			continue
-		}
-		stay -= sv.optionCents(d, o, 1)
-		sv.ignoreRoom = true
-		hops, w, ok, _ := sv.route(d, o, stay-1)
-		sv.ignoreRoom = false
-		sv.ejectWork++
-		if !ok || w >= stay {
-			continue
-		}
+		// Staying and the route with the room aside are priced as estimate prices a demand
+		// still in the plan: its own spans and charges as what leaving them saves (self), its
+		// own cable's place in the ducts as its own (markOwn), not as a cable more.
 		sv.endSelf()
 		for _, h := range c.legs[0] {
 			sv.self[h.Edge] = sv.selfSt
+		}
+		if sv.chOn {
+			sv.scanCharges(c)
+			for _, k := range sv.chTouch {
+				sv.chSelf[k] = selfUses{st: sv.selfSt, n: sv.chCnt[k]}
+			}
+		}
+		sv.markOwn(d, c)
+		stay, barred := sv.weigh(d, c)
+		var hops []Hop
+		var w int64
+		ok := barred == 0
+		if ok {
+			stay -= sv.optionCents(d, o, 1)
+			sv.ignoreRoom = true
+			hops, w, ok, _ = sv.route(d, o, stay-1)
+			sv.ignoreRoom = false
+			sv.ejectWork++
+		}
+		sv.endOwn()
+		if !ok || w >= stay {
+			continue
 		}
 		area := circleMM2(sv.od(d, o))
 		sv.weightFor(d, o) // a new penalty memo for d

@@ -255,25 +255,3 @@ func TestReelsStartShort(t *testing.T) {
 		}
 	}
 }
-
-// TestSplicePointEvenBeforeStructure: 205 m of channel on reels carrying 100 m (105 m at 5 %
-// waste) takes two joins; the one with a single splice point to build joins in HH-1 at 110 m,
-// which the first reel, even on its waste, does not reach. The splice point before it then
-// goes where the two reels come out even (55 m, 55 m), not at the first reel's end 10 m short
-// of HH-1 (TestJoinsCountedOnce's joins 12.8 m apart on the demo at reel 100, slack 15).
-// Before the cable's end the last reel is still cut to what is left. Common practice, no
-// published source.
-func TestSplicePointEvenBeforeStructure(t *testing.T) {
-	d := plan.Design{ReelM: 105, WastePct: 5}
-	splices, reelsM := fewerPoints(d, []SplicePoint{{ID: "HH-1", ChannelM: 110}}, nil, 205, 216, "B1")
-	if len(splices) != 2 || !splices[0].NoStructure || splices[1].ID != "HH-1" || math.Abs(splices[0].ChannelM-55) > 1e-9 {
-		t.Fatalf("joins %+v, want a splice point at 55 m and HH-1", splices)
-	}
-	if want := []float64{58, 58, 100}; !slices.Equal(reelsM, want) {
-		t.Errorf("reels %v, want %v (55, 55 and 95 m with 5 %% waste, each up to a whole metre)", reelsM, want)
-	}
-	// Without the structure the joins stay at the reels' ends.
-	if s := fewestJoins(d, nil, nil, 205, "B1"); len(s) != 2 || math.Abs(s[0].ChannelM-100) > 1e-9 || math.Abs(s[1].ChannelM-200) > 1e-9 {
-		t.Errorf("no structure: joins %+v, want at 100 and 200 m", s)
-	}
-}

@@ -510,6 +510,14 @@ func placeJoins(d plan.Design, passes []SplicePoint, spans []spanOnChannel, chan
 	capM := reelCarriesM(d)
 	slackM := d.SpliceSlackM
 	overM := d.ReelM - capM // a reel's waste
+	type place struct {
+		atM     float64
+		pass    int  // index into passes, -1 for a splice point to build
+		passed  bool // a splice point with a structure within its reel's reach passed over
+		points  int  // splice points to build up to and including this one
+		parent  int  // index into places, -1 for the cable's start
+		isStart bool
+	}
 	places := []place{{isStart: true, pass: -1, parent: -1}}
 	layer := []int{0}
 	headOf := func(p place) float64 {
@@ -519,14 +527,9 @@ func placeJoins(d plan.Design, passes []SplicePoint, spans []spanOnChannel, chan
 		return slackM
 	}
 	path := func(last int) []SplicePoint {
-		var chain []place
-		for i := last; !places[i].isStart; i = places[i].parent {
-			chain = append(chain, places[i])
-		}
-		slices.Reverse(chain)
-		evenPoints(chain, capM, slackM)
 		var out []SplicePoint
-		for _, p := range chain {
+		for i := last; !places[i].isStart; i = places[i].parent {
+			p := places[i]
 			sp := SplicePoint{ID: served, NoStructure: true, AtReelEnd: p.passed, ChannelM: p.atM}
 			if p.pass >= 0 {
 				sp = passes[p.pass]
@@ -536,6 +539,7 @@ func placeJoins(d plan.Design, passes []SplicePoint, spans []spanOnChannel, chan
 			sp.SlackM = joinSlackM(d, !sp.NoStructure)
 			out = append(out, sp)
 		}
+		slices.Reverse(out)
 		return out
 	}
 	done := -1 // the best finish so far (fewerPoints)
@@ -595,50 +599,6 @@ func placeJoins(d plan.Design, passes []SplicePoint, spans []spanOnChannel, chan
 		}
 	}
 	return nil
-}
-
-// place is a join's place in placeJoins: atM along the channel, in a structure passed or at a
-// splice point to build.
-type place struct {
-	atM     float64
-	pass    int  // index into passes, -1 for a splice point to build
-	passed  bool // a splice point with a structure within its reel's reach passed over
-	points  int  // splice points to build up to and including this one
-	parent  int  // index into places, -1 for the cable's start
-	isStart bool
-}
-
-// evenPoints moves a splice point to build of the joins chain (in travel order, after the
-// cable's start) back from its reel's end, where placeJoins puts it, when the next join is in
-// a structure and the reel between would carry less than half of what a reel between two joins
-// carries: to where the reels on its two sides are even, as far as the reel before it and the
-// one after allow (a reel of capM metres of channel, slackM of splicing slack at each joined
-// end). Before the cable's end or another point to build the reel is cut to what is left, as
-// before. The joins and the
-// points to build stay as many; no reel is cut to a short piece just before a structure the
-// previous reel could not reach (common practice, no published source: the installer splices
-// where the pieces come out even rather than build a splice point a few metres short of a
-// handhole). In travel order, each point after the ones moved before it.
-func evenPoints(chain []place, capM, slackM float64) {
-	full := capM - 2*slackM // route a reel between two joins carries
-	for i := range chain {
-		if chain[i].pass >= 0 {
-			continue
-		}
-		prevM, headM := 0.0, 0.0
-		if i > 0 {
-			prevM, headM = chain[i-1].atM, slackM
-		}
-		if i+1 == len(chain) || chain[i+1].pass < 0 {
-			continue // the last reel, or a reel up to another point, is cut to what is left
-		}
-		nextM := chain[i+1].atM
-		lowM, hiM := nextM-full, prevM+capM-headM-slackM
-		if nextM-chain[i].atM >= full/2 || lowM >= chain[i].atM {
-			continue
-		}
-		chain[i].atM = max(lowM, min(hiM, (prevM+nextM)/2))
-	}
 }
 
 // cutReels cuts the reels of a channel channelM metres long (before the splicing slack of its
