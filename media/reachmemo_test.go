@@ -2,6 +2,7 @@ package media
 
 import (
 	"fmt"
+	"slices"
 	"strings"
 	"testing"
 )
@@ -124,6 +125,89 @@ func TestReachID(t *testing.T) {
 	} {
 		if c.e.reachID == base {
 			t.Errorf("a change of %s leaves the reach id as it was", c.name)
+		}
+	}
+}
+
+// TestReachMemoLays: a Lays answer remembered from one engine and given to another equals the
+// other's own, for every medium, construction and transition laying, rate and link of
+// TestReachMemoAnswers' questions (300 strands too: two cables), on engines whose books differ
+// in every price, lack the transition's enclosure, or make the 12-strand cable dearer than
+// the 24 (so 300 strands buy 288 + 24, not 288 + 12), under the default rules and rules with
+// one more that excludes "2 × osp-loose-tube (288 + 12 strands)" by the fact cable (which the
+// book picks, so the memo keys it: Engine.cablesKey). Without cablesKey the last book's
+// answer for 300 strands would be the first's.
+func TestReachMemoLays(t *testing.T) {
+	books := []*PriceBook{
+		DefaultPriceBook(),
+		bookWith(t, "ofnr-riser: {12: 1.68, 24: 2.72,", "ofnr-riser: {12: 91.68, 24: 92.72,",
+			"ofnr-riser: {12: 2.62, 24: 4.25,", "ofnr-riser: {12: 92.62, 24: 94.25,"),
+		bookWith(t, "transition_splice_each: 260.00\n", ""),
+		bookWith(t, "osp-loose-tube: {12: 1.43, 24: 2.31,", "osp-loose-tube: {12: 9.43, 24: 2.31,"),
+	}
+	strict, err := ParseRules("strict.yaml", append(slices.Clone(rulesYAML), []byte(`
+  - id: no-288-12
+    when: cable == "2 × osp-loose-tube (288 + 12 strands)"
+    effect: exclude
+    reason: "test rule on the cable the book picks"
+    source: common practice, no published source
+`)...))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var questions []Link
+	for _, strands := range []int{2, 12, 48, 300} {
+		for _, riser := range []float64{0, 40} {
+			for _, types := range [][]string{{"duct"}, {"aerial", "duct"}, {"tray"}} {
+				questions = append(questions, Link{ID: "q", RiserM: riser, SlackM: 10, MaxEMI: "none", Outdoor: types[0] != "tray",
+					PathwayTypes: types, ConnectorPairs: 2, Strands: strands, InsideAM: riser / 2, InsideBM: riser / 2})
+			}
+		}
+	}
+	for _, rules := range []*Rules{nil, strict} {
+		memo := NewReachMemo(1 << 12)
+		var fresh []*Engine
+		for _, p := range books {
+			fresh = append(fresh, engineWith(t, nil, rules, p, EngineOptions{}))
+		}
+		checked := 0
+		for round := 0; round < 2; round++ {
+			for i, p := range books {
+				e := engineWith(t, nil, rules, p, EngineOptions{})
+				for _, med := range e.Media() {
+					m := e.Catalog().Medium(med)
+					for _, rate := range e.Catalog().Rates() {
+						for _, l := range questions {
+							var lays []Laying
+							for _, k := range m.Constructions {
+								lays = append(lays, Laying{Construction: k.ID})
+							}
+							if lay, _, ok := e.LayingFor(med, rate, l); ok {
+								lays = append(lays, lay)
+							}
+							for _, lay := range lays {
+								got, want := memo.Lays(e, med, lay, rate, l), fresh[i].Lays(med, lay, rate, l)
+								if got != want {
+									t.Fatalf("rules %v, book %d, %s laid %+v at %g, %+v: remembered %v, the engine's own %v", rules != nil, i, med, lay, rate, l, got, want)
+								}
+								checked++
+							}
+						}
+					}
+				}
+			}
+		}
+		if checked == 0 {
+			t.Fatal("checked nothing")
+		}
+		if rules != nil {
+			// The strict rule excludes the first book's 300 strands of osp-loose-tube and not
+			// the last's: the same question, two answers.
+			lay := Laying{Construction: "osp-loose-tube"}
+			l := questions[len(questions)-6] // 300 strands, no riser, in a duct
+			if a, b := fresh[0].Lays("os2", lay, 10, l), fresh[3].Lays("os2", lay, 10, l); a || !b {
+				t.Errorf("300 strands of os2 osp-loose-tube at 10G under the strict rule: book 0 lays %v, book 3 lays %v; want false, true", a, b)
+			}
 		}
 	}
 }

@@ -149,8 +149,9 @@ func SolveWith(ctx context.Context, s *site.Site, p *plan.Plan, eng *media.Engin
 }
 
 // SolveFrom is SolveWith with the optimizer's search begun from an earlier plan's routes
-// (routing.SolveFrom); nil start is SolveWith. The result records where it started
-// (StartedFrom) and, in a note, the links whose earlier routes no longer fit and were placed
+// (routing.SolveFrom); nil start is SolveWith, and so is a start with WherePays where it does
+// not pay (routing.StartPays). The result records where it started (StartedFrom, "" when it
+// did not) and, in a note, the links whose earlier routes no longer fit and were placed
 // afresh.
 func SolveFrom(ctx context.Context, s *site.Site, p *plan.Plan, eng *media.Engine, start *routing.Start) (*Result, error) {
 	pr, err := prepare(s, p, eng)
@@ -164,6 +165,9 @@ func SolveFrom(ctx context.Context, s *site.Site, p *plan.Plan, eng *media.Engin
 	rt, err := routing.SolveFrom(ctx, s, pr.model, links, start)
 	if err != nil {
 		return nil, err
+	}
+	if !rt.Started {
+		start = nil // not worth it (routing.Start.WherePays): planned from scratch
 	}
 	if start != nil && rt.StartSame {
 		pr.notes = append(pr.notes, fmt.Sprintf("started from the routes of %s, a plan of this same routing problem (every route cost, rule and reach the optimizer sees is the same): this plan is that problem's own plan from scratch, as that one was, not a search from its routes", start.From))
@@ -402,7 +406,7 @@ const startNoteLinks = 10
 // hub starts from), the note that it was no start at all and why. noRoom of the unused were
 // placed afresh for a duct with no room (routing.Routed.StartNoRoom), which the note counts.
 func startNote(start *routing.Start, hub string, links []site.Link, unused []string, noRoom int) []string {
-	if !keepsRoute(start, links) && len(links) > 0 {
+	if !start.KeepsRoute(links) && len(links) > 0 {
 		// A link's ID starts with its cross-connect end (site.Link.ID): when none of the
 		// start's starts with one of this plan's, the start was planned from another hub.
 		sameEnd := slices.ContainsFunc(start.Legs, func(sl routing.StartLeg) bool {

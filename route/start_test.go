@@ -67,6 +67,24 @@ func TestWarmStartWherePays(t *testing.T) {
 	if got := route.WarmStart(s, p, eng, own); got != nil {
 		t.Errorf("demo campus: warm start kept; want a plan from scratch")
 	}
+	// SolveFrom makes the same decision on the problem it builds, for a start with WherePays
+	// (a sweep's), and plans from scratch: the plan SolveWith makes, naming no start.
+	pays := *own
+	pays.WherePays = true
+	got, err := route.SolveFrom(context.Background(), s, p, eng, &pays)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got.StartedFrom != "" || got.ObjectiveCents != r.ObjectiveCents || got.ProblemSHA256 != r.ProblemSHA256 || len(got.Notes) != len(r.Notes) {
+		t.Errorf("demo campus, SolveFrom with WherePays: started from %q, objective %d, problem %q, notes %q; want no start, %d, %q, %q",
+			got.StartedFrom, got.ObjectiveCents, got.ProblemSHA256, got.Notes, r.ObjectiveCents, r.ProblemSHA256, r.Notes)
+	}
+	// Without WherePays (`plan --start-from`) it starts from the routes it is given.
+	if got, err := route.SolveFrom(context.Background(), s, p, eng, own); err != nil {
+		t.Fatal(err)
+	} else if got.StartedFrom != "base" {
+		t.Errorf("demo campus, SolveFrom without WherePays: started from %q, want base", got.StartedFrom)
+	}
 	big := testsite.Synth(t, 600)
 	bp := testsite.SynthPlan(big)
 	beng, err := plan.Engine(bp)

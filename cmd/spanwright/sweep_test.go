@@ -180,7 +180,7 @@ func TestSweepFull(t *testing.T) {
 // TestSweepScenarioReproducedByPlan: every scenario of a sweep of the demo campus (with
 // --full: every file) is, byte for byte, what `plan` writes alone from its plan.yaml, by
 // default as with --cold: the campus is small enough for the optimizer's full search from
-// scratch, so no scenario is warm-started (route.WarmStart; tester 12's findings 1 and 7).
+// scratch, so no scenario is warm-started (routing.StartPays; tester 12's findings 1 and 7).
 // A warm-started scenario's plan.yaml names the `plan --start-from` command that reproduces
 // it; the sweep package's warm tests hold those scenarios to the same bytes in every shard
 // and on --resume, and `plan --start-from` itself still starts from what it is given. The

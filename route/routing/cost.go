@@ -769,7 +769,7 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link, sh *shortest) (op
 			switch {
 			case !m.allowed(s, med, rate, future, strands, c):
 				exclude |= lay.classBit[c]
-			case base.Construction != "" && !m.lays(med, base, info, c):
+			case base.Construction != "" && !m.lays(s, med, base, info, c):
 				exclude |= lay.classBit[c]
 				if !reaches {
 					continue
@@ -785,7 +785,7 @@ func demand(s *site.Site, m *Model, lay *layout, l *site.Link, sh *shortest) (op
 		for _, other := range others {
 			var ex uint64
 			for _, c := range lay.classes {
-				if !m.allowed(s, med, rate, future, strands, c) || !m.lays(med, other.laying, info, c) {
+				if !m.allowed(s, med, rate, future, strands, c) || !m.lays(s, med, other.laying, info, c) {
 					ex |= lay.classBit[c]
 				}
 			}
@@ -1113,13 +1113,14 @@ func classFacts(info demandInfo, c spanClass) media.Link {
 }
 
 // lays reports whether the rules let medium's cable laid as lay carry the link over spans of
-// class c (media.Engine.Lays), remembered per plan.
-func (m *Model) lays(medium string, lay media.Laying, info demandInfo, c spanClass) bool {
+// class c (media.Engine.Lays), remembered per plan and, across the engines of a sweep's price
+// books, by the site (media.ReachMemo.Lays).
+func (m *Model) lays(s *site.Site, medium string, lay media.Laying, info demandInfo, c spanClass) bool {
 	k := m.layingKeyOf(medium, lay, info, c)
 	if v, ok := m.laysMemo[k]; ok {
 		return v
 	}
-	v := m.eng.Lays(medium, lay, info.rate, classFacts(info, c))
+	v := s.Reaches.Lays(m.eng, medium, lay, info.rate, classFacts(info, c))
 	m.laysMemo[k] = v
 	return v
 }

@@ -44,6 +44,10 @@ type Routed struct {
 	// one (items.Entrance), used as soon as a leg ends there, and the handholes where their
 	// counted laterals tap a duct, one per junction (prepaidTaps).
 	ConstantCents int64
+	// Started reports that the optimizer's search began from SolveFrom's start: false
+	// without one, and when the start's WherePays found it not worth it (StartPays), the
+	// plan then being the plan from scratch.
+	Started bool
 	// StartUnused lists, in link order, the links whose routes in SolveFrom's start did not
 	// fit this plan (another network, hub or medium, a span gone, beyond reach, a duct with no
 	// room) and were placed afresh, each as its ID and why in brackets; nil without a start.
@@ -119,8 +123,9 @@ func Solve(ctx context.Context, s *site.Site, m *Model, links []site.Link) (*Rou
 }
 
 // SolveFrom is Solve with the optimizer's search begun from start's routes (a warm start);
-// nil start is Solve. The links whose start routes no longer fit are placed afresh and listed
-// in Routed.StartUnused.
+// nil start is Solve, and so is a start with WherePays on a problem it does not pay for
+// (StartPays; Routed.Started says which). The links whose start routes no longer fit are
+// placed afresh and listed in Routed.StartUnused.
 func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, start *Start) (*Routed, error) {
 	runs := m.runsOf(s)
 	prob, lay, infos, err := problem(s, m, links, runs)
@@ -129,6 +134,9 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 	}
 	if err := ctx.Err(); err != nil {
 		return nil, err
+	}
+	if start != nil && start.WherePays && !startPaysOn(prob, links, start) {
+		start = nil // planned from scratch, as without a start (Routed.Started)
 	}
 	opt := optimize.Settings{Objective: m.design.Objective}
 	var unfit map[int]string
@@ -143,7 +151,7 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 	if err != nil {
 		return nil, optimizerErr(ctx, err)
 	}
-	r := &Routed{StartSame: reused}
+	r := &Routed{Started: start != nil, StartSame: reused}
 	if start == nil || reused {
 		r.ProblemSHA256 = cold
 	}

@@ -5,6 +5,7 @@ import (
 	"math"
 	"slices"
 
+	"spanwright/geo"
 	"spanwright/route/optimize"
 	"spanwright/route/site"
 )
@@ -24,6 +25,55 @@ type Start struct {
 	// problem started from them is that plan (SolveFrom), not a search from it: identical
 	// problems give identical plans, whichever was planned first.
 	ProblemSHA256 string
+	// WherePays starts the search from these routes only where that is worth what it changes
+	// (StartPays: a sweep's scenarios); without it SolveFrom starts from them whatever the
+	// problem (`spanwright plan --start-from` starts from the routes it is given).
+	WherePays bool
+}
+
+// StartPays reports whether beginning the optimizer's search for links from start is worth
+// what it changes, the one decision a sweep's scenario starts warm by (Start.WherePays): start
+// must have a route for some link of links (Start.KeepsRoute: a base planned from another
+// hub keeps nothing, and a warm search from no routes is only a weaker search), and the routing problem must be too large for the
+// optimizer's full search from scratch (optimize.WarmPays: the second start and the
+// perturbation phase, which a warm start skips). SolveFrom decides it on the problem it
+// builds; StartPays, for a caller that has to know before planning (a resumed sweep), builds
+// it only when the plan's demands and proposed spans alone do not already settle it. A
+// problem that does not build gets false: SolveFrom reports its error.
+func StartPays(s *site.Site, m *Model, links []site.Link, start *Start) bool {
+	if start == nil || !start.KeepsRoute(links) {
+		return false
+	}
+	// The plan's demands and its proposed spans alone (one demand a link, one proposed edge a
+	// proposed span, and more edges and the charges besides) are a problem no larger than its
+	// own: when that already pays, the problem need not be built.
+	lower := &optimize.Problem{Demands: make([]optimize.Demand, len(links)), AllowNew: m.design.AllowNewTrench}
+	for i := range s.Net.Spans {
+		if s.Net.Spans[i].Status == geo.StatusProposed {
+			lower.Edges = append(lower.Edges, optimize.Edge{Proposed: true})
+		}
+	}
+	if optimize.WarmPays(lower) {
+		return true
+	}
+	prob, _, _, err := problem(s, m, links, m.runsOf(s))
+	return err == nil && startPaysOn(prob, links, start)
+}
+
+// startPaysOn is StartPays on the problem of links, built.
+func startPaysOn(prob *optimize.Problem, links []site.Link, start *Start) bool {
+	return start.KeepsRoute(links) && optimize.WarmPays(prob)
+}
+
+// KeepsRoute reports whether the start has a route for some link of links (a link is named
+// by its cross-connect end first, site.Link.ID, so a start planned from another hub has
+// none).
+func (st *Start) KeepsRoute(links []site.Link) bool {
+	in := map[string]bool{}
+	for _, l := range st.Legs {
+		in[l.Link] = true
+	}
+	return slices.ContainsFunc(links, func(l site.Link) bool { return in[l.ID] })
 }
 
 // StartLeg is one leg of a Start, as routes.geojson writes it.

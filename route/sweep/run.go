@@ -90,8 +90,8 @@ type Options struct {
 	CampusDatabase string
 	// Cold plans every scenario from scratch, as `spanwright plan` plans its plan alone. By
 	// default a scenario on the base scenario's network (the same campus files and noding)
-	// starts its search from the base scenario's routes where route.WarmStart finds that worth
-	// it (see Run), and is planned from scratch elsewhere.
+	// starts its search from the base scenario's routes where routing.StartPays finds that
+	// worth it (see Run), and is planned from scratch elsewhere.
 	Cold bool
 	// Preflight checks the inputs of every scenario of the sweep before anything is planned
 	// or written, and stops the sweep with every problem at once (see preflight) instead of
@@ -99,7 +99,7 @@ type Options struct {
 	Preflight bool
 	// warmAlways, for the tests of the warm start's machinery on campuses small enough to be
 	// planned from scratch, starts every scenario on the base's site from the base's routes,
-	// without asking route.WarmStart whether the start is worth it.
+	// without asking routing.StartPays whether the start is worth it (no WherePays).
 	warmAlways bool
 }
 
@@ -197,7 +197,7 @@ func Check(ctx context.Context, f *File, opt Options) error {
 // whatever opt.Jobs is.
 //
 // Warm start: unless opt.Cold, the base scenario (the first in sweep order) is planned first,
-// from scratch, and every other scenario on its network for which route.WarmStart finds it
+// from scratch, and every other scenario on its network for which routing.StartPays finds it
 // worth it (a routing problem beyond the optimizer's full search from scratch, and a route of
 // the base for one of its links: the same hub) begins the optimizer's search from its
 // routes; the others are planned from scratch, as `spanwright plan` plans them alone. The
@@ -617,21 +617,35 @@ func (r *runner) scenario(ctx context.Context, sc Scenario, resume bool) (outcom
 		return fail(err)
 	}
 	p.MaxInputBytes = r.f.MaxInputBytes
+	// The base's routes, when the scenario may start from them: SolveFrom decides whether it
+	// does (routing.Start.WherePays), on the problem it builds. Its plan.yaml and
+	// inputs.sha256 say which (startFiles); where that must be known without planning (a
+	// folder kept by resume, a scenario that fails) route.WarmStart makes the same decision.
 	start := r.startOf(sc, p)
-	if start != nil {
-		planData = warmHeader(planData, sc.ID, r.base.id)
-	}
-	inputs, err := r.inputsFile(p, planData)
+	startsWarm := func() bool { return start != nil && (!start.WherePays || r.warmStart(p, start)) }
+	coldPlan := planData
+	planData, inputs, err := r.startFiles(sc, p, coldPlan, false)
 	if err != nil {
+		if startsWarm() {
+			planData = warmHeader(coldPlan, sc.ID, r.base.id)
+		}
 		return fail(err)
-	}
-	if start != nil {
-		// The routes it starts from are an input too: a new base plans it again.
-		inputs = append(inputs, sumLine(r.base.routesSum, "../"+r.base.id+"/"+output.RoutesFile)...)
 	}
 	// A database has no file to hash: a scenario that reads one is planned again.
 	if resume && p.CampusDatabase == "" {
-		if s, ok := r.resumable(sc, dir, inputs); ok {
+		s, ok := output.Summary{}, false
+		if start != nil {
+			// A folder of a warm start from these very routes (their hash is among its inputs)
+			// was decided warm on the same inputs, so it would be again.
+			if _, warm, err := r.startFiles(sc, p, coldPlan, true); err == nil {
+				s, ok = r.resumable(sc, dir, warm)
+			}
+		}
+		if !ok {
+			s, ok = r.resumable(sc, dir, inputs)
+			ok = ok && !startsWarm()
+		}
+		if ok {
 			out.row.fill(s)
 			out.row.Report = htmlIn(dir)
 			out.skipped = true
@@ -651,7 +665,15 @@ func (r *runner) scenario(ctx context.Context, sc Scenario, resume bool) (outcom
 		if ctx.Err() != nil {
 			return out, ctx.Err()
 		}
+		if startsWarm() {
+			planData = warmHeader(coldPlan, sc.ID, r.base.id)
+		}
 		return fail(err)
+	}
+	if res.StartedFrom != "" {
+		if planData, inputs, err = r.startFiles(sc, p, coldPlan, true); err != nil {
+			return fail(err)
+		}
 	}
 	if !r.opt.Shard.Has(sc.Index) {
 		// Another shard's scenario (the base, planned by every shard for its warm start):
@@ -804,6 +826,23 @@ func cloneNode(n *yaml.Node) *yaml.Node {
 		return &c
 	}
 	return clone(n)
+}
+
+// startFiles returns the scenario's plan.yaml and inputs.sha256 from planData, its plan as
+// planYAML renders it: with warm, as a scenario started from the base's routes writes them
+// (warmHeader, and the base's routes.geojson among the inputs: a new base plans it again).
+func (r *runner) startFiles(sc Scenario, p *plan.Plan, planData []byte, warm bool) ([]byte, []byte, error) {
+	if warm {
+		planData = warmHeader(planData, sc.ID, r.base.id)
+	}
+	inputs, err := r.inputsFile(p, planData)
+	if err != nil {
+		return planData, nil, err
+	}
+	if warm {
+		inputs = append(inputs, sumLine(r.base.routesSum, "../"+r.base.id+"/"+output.RoutesFile)...)
+	}
+	return planData, inputs, nil
 }
 
 // inputsFile renders inputs.sha256 in the format of GNU sha256sum: one "hash  name" line

@@ -101,7 +101,7 @@ func (r *runner) planBase(ctx context.Context) error {
 			return fmt.Errorf("sweep: base scenario %s: its own routes: %w", sc.ID, err) // a bug: the writer and the reader disagree
 		}
 	}
-	st.From = sc.ID
+	st.From, st.WherePays = sc.ID, !r.opt.warmAlways
 	planData, err := r.planYAML(sc)
 	if err != nil {
 		return err
@@ -125,12 +125,12 @@ func (r *runner) planned(ctx context.Context, sc Scenario) (outcome, error) {
 	return r.scenario(ctx, sc, r.opt.Resume)
 }
 
-// startOf is the warm start of scenario sc with plan p: the base's routes when sc is another
-// scenario on the base's site whose plan the start is worth it for (route.WarmStart: a problem
-// too large for the optimizer's full search from scratch, and a start with a route for some
-// link of the scenario), nil otherwise: the scenario is then planned from scratch, as
-// `spanwright plan` plans it alone and --cold does. A site or engine that does not load gives
-// nil too, and the scenario fails where it would have failed anyway.
+// startOf is the warm start scenario sc with plan p may begin from: the base's routes when sc
+// is another scenario on the base's site, nil otherwise (the scenario is then planned from
+// scratch, as `spanwright plan` plans it alone and --cold does). Those routes carry
+// WherePays (planBase): SolveFrom starts from them only where routing.StartPays finds it
+// worth it (a problem too large for the optimizer's full search from scratch, and a start
+// with a route for some link of the scenario), on the problem it builds.
 func (r *runner) startOf(sc Scenario, p *plan.Plan) *routing.Start {
 	b := r.base
 	if b == nil || b.start == nil || sc.Index == b.index {
@@ -139,18 +139,22 @@ func (r *runner) startOf(sc Scenario, p *plan.Plan) *routing.Start {
 	if _, _, key := siteOf(p); key != b.siteKey {
 		return nil
 	}
-	if r.opt.warmAlways {
-		return b.start
-	}
+	return b.start
+}
+
+// warmStart reports whether scenario plan p starts from start, as SolveFrom would decide it
+// (route.WarmStart), for where that must be known without planning; a site or engine that
+// does not load gives false, and the scenario fails where it would have failed anyway.
+func (r *runner) warmStart(p *plan.Plan, start *routing.Start) bool {
 	site, err := r.site(p)
 	if err != nil {
-		return nil
+		return false
 	}
 	eng, err := r.engine(p)
 	if err != nil {
-		return nil
+		return false
 	}
-	return route.WarmStart(site, p, eng, b.start)
+	return route.WarmStart(site, p, eng, start) != nil
 }
 
 // warmHeader returns a warm-started scenario's plan.yaml with, after its first line (the
