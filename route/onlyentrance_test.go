@@ -17,13 +17,13 @@ import (
 // are shared whatever the routes, and the plan must say so (common practice, no published
 // source, for what a designer does then: build the two routes apart beyond the shared entrance
 // and name it, or name it and what would fix it).
-func oneEntranceCampus(streetS string) string {
-	return collection(testsite.Box("A", "mc", 50, 50), testsite.Box("B", "", 150, 20), testsite.Box("C", "", 220, 60),
+func oneEntranceCampus(streetS string, more ...string) string {
+	return collection(append([]string{testsite.Box("A", "mc", 50, 50), testsite.Box("B", "", 150, 20), testsite.Box("C", "", 220, 60),
 		streetS, duct("N", 0, 100, 50, 100, 220, 100, 300, 100),
 		duct("W", 0, 0, 0, 100), duct("E", 300, 0, 300, 100),
 		duct("LA1", 50, 0, 50, 45), duct("LA2", 50, 100, 50, 55), duct("LC", 220, 70, 220, 100),
 		handhole("H1", 50, 0), handhole("H2", 50, 100), handhole("H3", 0, 0), handhole("H4", 0, 100),
-		handhole("H5", 300, 0), handhole("H6", 300, 100), handhole("H7", 220, 100))
+		handhole("H5", 300, 0), handhole("H6", 300, 100), handhole("H7", 220, 100)}, more...)...)
 }
 
 // TestDiverseOneEntranceTap: B's only entrance is a counted lateral tapping S. The two legs
@@ -63,8 +63,10 @@ func TestDiverseOneEntranceTap(t *testing.T) {
 	if d.Name != routing.LegDiverse || d.ReasonCode != routing.CodeSharedPt {
 		t.Fatalf("second leg %s code %q, want the diverse leg with %s", d.Name, d.ReasonCode, routing.CodeSharedPt)
 	}
+	// No other pathway within design.max_lateral_m (30 m) of B but S, which the lateral taps
+	// (N is 70 m off): the fix is a proposed pathway to its wall.
 	for _, want := range []string{"both legs use building B's only entrance B:1 and its 10.0 m lateral to junction ", "a single point of failure",
-		"a second entrance to building B on another pathway would make the link diverse", "a proposed pathway drawn to its wall"} {
+		"a second entrance to building B on another pathway would make the link diverse, but no other pathway passes within design.max_lateral_m 30 m of it: it needs a proposed pathway drawn to its wall, which the plan may build and would price"} {
 		if !strings.Contains(d.Choice, want) {
 			t.Errorf("diverse leg's note lacks %q: %s", want, d.Choice)
 		}
@@ -140,8 +142,9 @@ func TestDiverseOneEntranceDrawnLateral(t *testing.T) {
 		if l.Feasible || l.ReasonCode != routing.CodeNoDiverse {
 			t.Fatalf("diverse leg feasible %v code %q, want %s", l.Feasible, l.ReasonCode, routing.CodeNoDiverse)
 		}
+		// N, 30 m off C, is where ways part (shares the way in's risk); S is 50 m off.
 		for _, want := range []string{"no diverse route: every route must use building C's only entrance ", " and its one way on, span LC (pathway LC), to junction ",
-			", a single point of failure; a second entrance to building C on another pathway would make the link diverse"} {
+			", a single point of failure; a second entrance to building C on another pathway would make the link diverse, but no other pathway passes within design.max_lateral_m 30 m of it"} {
 			if !strings.Contains(l.Reason, want) {
 				t.Errorf("reason lacks %q: %s", want, l.Reason)
 			}
@@ -149,4 +152,30 @@ func TestDiverseOneEntranceDrawnLateral(t *testing.T) {
 		return
 	}
 	t.Fatal("no diverse leg to C")
+}
+
+// TestDiverseOneEntranceSuggests: with a duct M looping 15 m north of B (from S at x = 100 up,
+// along y = 45 and down to S at x = 200), the SPOF note names M as where a second entrance
+// would go, at its distance: within design.max_lateral_m (30 m), a declared entrance facing
+// it gets a counted lateral (Build). Not built: B keeps its one entrance.
+func TestDiverseOneEntranceSuggests(t *testing.T) {
+	t.Parallel()
+	r, err := testplan.PullSolveJSON(t, oneEntranceCampus(duct("S", 0, 0, 50, 0, 300, 0), duct("M", 100, 0, 100, 45, 200, 45, 200, 0)), diverse("B"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, l := range r.Legs {
+		if l.Link.To != "B" || l.Name != routing.LegDiverse {
+			continue
+		}
+		if !l.Feasible || l.ReasonCode != routing.CodeSharedPt || l.EntranceTo != "B:1" {
+			t.Fatalf("diverse leg feasible %v code %q entrance %s: %s", l.Feasible, l.ReasonCode, l.EntranceTo, l.Reason)
+		}
+		want := "a second entrance to building B facing pathway M, 15.0 m from its footprint, would make the link diverse (declared there, within design.max_lateral_m 30 m, it gets a lateral the plan lays and prices)"
+		if !strings.Contains(l.Choice, want) {
+			t.Errorf("note lacks %q: %s", want, l.Choice)
+		}
+		return
+	}
+	t.Fatal("no diverse leg to B")
 }

@@ -166,7 +166,7 @@ func legsOf(s *site.Site, cm *Model, lay *layout, prob *optimize.Problem, rt *op
 			for _, b := range []string{l.To, l.From} {
 				if w, one := stemOf(lay, prob, b); one && d.Feasible {
 					d.Choice += fmt.Sprintf("; both legs use %s, a single point of failure: %s", w.text(s, lay),
-						secondEntrance(b, cm.design.MaxLateralM, cm.design.AllowNewTrench))
+						secondEntrance(s, lay, w, cm.design.MaxLateralM, cm.design.AllowNewTrench))
 					d.ReasonCode = CodeSharedPt
 				}
 			}

@@ -104,14 +104,47 @@ func (w wayIn) text(s *site.Site, lay *layout) string {
 	return b.String()
 }
 
-// secondEntrance is the suggestion a reason about a building's only way in ends with: what
-// would give the link a second, independent route. It is not built: the campus must draw it.
-func secondEntrance(b string, maxLateralM float64, allowNew bool) string {
-	s := fmt.Sprintf("a second entrance to building %s on another pathway would make the link diverse (a declared entrance within design.max_lateral_m %s m of it", b, strconv.FormatFloat(maxLateralM, 'f', -1, 64))
-	if allowNew {
-		s += ", or a proposed pathway drawn to its wall, which the plan may build and would price"
+// secondEntrance is the suggestion a reason about building w.building's only way in ends
+// with: what would give the link a second, independent route. It is never built: the campus
+// must draw it. The nearest pathway within design.max_lateral_m of the footprint that is not
+// on the way in, nor met where ways part (those share the way in's risk), is named: a
+// declared entrance facing it gets a counted lateral the plan lays and prices (Build; even
+// without new trench). With none, a proposed pathway to the wall, which only a plan that may
+// build new trench builds.
+func secondEntrance(s *site.Site, lay *layout, w wayIn, maxLateralM float64, allowNew bool) string {
+	own := map[string]bool{}
+	for _, e := range w.edges {
+		if e < len(s.Net.Spans) {
+			own[s.Net.Spans[e].PathwayID] = true
+		}
 	}
-	return s + ")"
+	for _, j := range []string{w.entry.Junction, junctionOf(s, lay, w.nodes[len(w.nodes)-1])} {
+		for i := range s.Net.Spans {
+			if sp := &s.Net.Spans[i]; j != "" && (sp.From == j || sp.To == j) {
+				own[sp.PathwayID] = true
+			}
+		}
+	}
+	reach := strconv.FormatFloat(maxLateralM, 'f', -1, 64)
+	for _, np := range s.Net.PathwaysNear(s.Campus, w.building, maxLateralM) {
+		if !own[np.PathwayID] {
+			return fmt.Sprintf("a second entrance to building %s facing pathway %s, %.1f m from its footprint, would make the link diverse (declared there, within design.max_lateral_m %s m, it gets a lateral the plan lays and prices)",
+				w.building, np.PathwayID, np.DistM, reach)
+		}
+	}
+	out := fmt.Sprintf("a second entrance to building %s on another pathway would make the link diverse, but no other pathway passes within design.max_lateral_m %s m of it: it needs a proposed pathway drawn to its wall", w.building, reach)
+	if allowNew {
+		return out + ", which the plan may build and would price"
+	}
+	return out + ", which design.allow_new_trench false forbids"
+}
+
+// junctionOf is the junction of node v of the layout, "" for a building's own node.
+func junctionOf(s *site.Site, lay *layout, v int) string {
+	if j := lay.junction[v]; j >= 0 {
+		return s.Net.Junctions[j].ID
+	}
+	return ""
 }
 
 // onlyWayIn is the reason of a diverse leg that got no route of its own when what every route
@@ -124,7 +157,7 @@ func onlyWayIn(s *site.Site, m *Model, lay *layout, prob *optimize.Problem, l *s
 				then = ", and leave it along shared-risk group " + groupName(s, lay, prob, sp.Index)
 			}
 			return fmt.Sprintf("every route must use %s%s, a single point of failure; %s",
-				w.text(s, lay), then, secondEntrance(b, m.design.MaxLateralM, m.design.AllowNewTrench))
+				w.text(s, lay), then, secondEntrance(s, lay, w, m.design.MaxLateralM, m.design.AllowNewTrench))
 		}
 	}
 	return ""
