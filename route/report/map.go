@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"html/template"
 	"math"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -107,6 +108,47 @@ type mapView struct {
 	NorthX    string
 	NorthY    string
 	Empty     bool // nothing to draw
+	// Frame outlines, on the whole campus's map, the core drawn larger below it (coreMap);
+	// nil on the core's map and when there is none.
+	Frame *svgPath
+	// Label is the SVG's accessible name; "" means the whole campus's.
+	Label  string
+	pxPerM float64 // the drawing's scale, pixels a metre
+}
+
+// Building labels: a label is a box labelCharPx wide a character (labelCharXCPx for a
+// cross-connect's, in bold) and labelHeightPx high about its point, the font sizes of
+// style.css (.lbl 11 px, .lbl.xc 12 px bold) measured generously (capitals). A label that would overlap
+// one placed before it is moved above or below its building by labelStepPx, or, when neither
+// is free, left out: the building's tooltip still names it (and on a large campus the core's
+// map draws it larger).
+const (
+	labelCharPx   = 7.2
+	labelCharXCPx = 8.4
+	labelHeightPx = 13.0
+	labelStepPx   = 13.0
+)
+
+// labelBox is a placed label's box, in pixels.
+type labelBox struct{ x0, y0, x1, y1 float64 }
+
+// placeLabel places text centred at want, or above or below it when that overlaps a box
+// already placed, adds its box to boxes and returns where; false when it fits nowhere.
+func placeLabel(boxes *[]labelBox, want xy, text string, bold bool) (xy, bool) {
+	w := labelCharPx
+	if bold {
+		w = labelCharXCPx
+	}
+	half := float64(len([]rune(text)))*w/2 + 1
+	for _, dy := range []float64{0, -labelStepPx, labelStepPx} {
+		at := xy{X: want.X, Y: want.Y + dy}
+		b := labelBox{at.X - half, at.Y - labelHeightPx/2, at.X + half, at.Y + labelHeightPx/2}
+		if !slices.ContainsFunc(*boxes, func(o labelBox) bool { return b.x0 < o.x1 && o.x0 < b.x1 && b.y0 < o.y1 && o.y0 < b.y1 }) {
+			*boxes = append(*boxes, b)
+			return at, true
+		}
+	}
+	return xy{}, false
 }
 
 // coords copies a line of [lon, lat] points (a geo line or ring) as plain pairs.
@@ -144,8 +186,9 @@ func structureShape(t string) string {
 	return "diamond"
 }
 
-// buildMap draws the campus and the result's feasible legs.
-func buildMap(ctx context.Context, r *route.Result, opt Options, med map[string]mediumInfo, sts []output.Structure) (mapView, error) {
+// drawnBounds is the box of everything the map draws: footprints, spans, structures and
+// laterals.
+func drawnBounds(r *route.Result) bounds {
 	c, net := r.Site.Campus, r.Site.Net
 	var b bounds
 	for _, bd := range c.Buildings {
@@ -175,11 +218,32 @@ func buildMap(ctx context.Context, r *route.Result, opt Options, med map[string]
 			b.add(q[0], q[1])
 		}
 	}
+	return b
+}
+
+// buildMap draws the campus and the result's feasible legs, fitted to box b; what lies
+// outside b is cut off at the drawing's edge. A non-nil frame is outlined on it (the core's
+// box, on the whole campus's map).
+func buildMap(ctx context.Context, r *route.Result, opt Options, med map[string]mediumInfo, sts []output.Structure, b bounds, frame *bounds) (mapView, error) {
+	c, net := r.Site.Campus, r.Site.Net
 	p := newProjection(b, mapWidthPx, mapMaxHeightPx, mapMarginPx)
-	m := mapView{W: num(p.widthPx), H: num(p.heightPx), Empty: !b.any}
+	m := mapView{W: num(p.widthPx), H: num(p.heightPx), Empty: !b.any, pxPerM: p.pxPerM}
+	// Where labels go: inside the drawing's margins, and not inside the frame, whose labels
+	// the core's map draws (on this scale they would lie on top of one another).
+	inFrame := func(xy) bool { return false }
+	if frame != nil {
+		lo, hi := p.at(frame.minLon, frame.minLat), p.at(frame.maxLon, frame.maxLat)
+		m.Frame = &svgPath{D: fmt.Sprintf("M%s %sH%sV%sH%sZ", num(lo.X), num(lo.Y), num(hi.X), num(hi.Y), num(lo.X)), Class: "core-frame",
+			Title: "the core, drawn larger in the map below, with its labels"}
+		inFrame = func(q xy) bool { return q.X >= lo.X && q.X <= hi.X && q.Y >= hi.Y && q.Y <= lo.Y }
+	}
+	inside := func(q xy) bool {
+		return q.X >= mapMarginPx/2 && q.X <= p.widthPx-mapMarginPx/2 && q.Y >= mapMarginPx/2 && q.Y <= p.heightPx-bandPx && !inFrame(q)
+	}
 
 	ps := passagesOf(r)
 	var taken []xy // the labels placed: buildings', then structures' numbers
+	var boxes []labelBox
 	for _, bd := range c.Buildings {
 		var d strings.Builder
 		var best xy
@@ -215,13 +279,14 @@ func buildMap(ctx context.Context, r *route.Result, opt Options, med map[string]
 			m.Crossed = true
 			title += "; routes pass through it: " + strings.Join(legs, ", ")
 		}
-		if bestA >= 0 {
-			taken = append(taken, xy{X: best.X, Y: best.Y})
+		shape := buildingShape{svgPath: svgPath{D: d.String(), Class: cls, Title: title}, ID: bd.ID, LabelCls: lcls}
+		if bestA >= 0 && inside(best) {
+			if at, ok := placeLabel(&boxes, best, bd.ID, lcls != "lbl"); ok {
+				taken = append(taken, at)
+				shape.LabelX, shape.LabelY = num(at.X), num(at.Y+4)
+			}
 		}
-		m.Buildings = append(m.Buildings, buildingShape{
-			svgPath: svgPath{D: d.String(), Class: cls, Title: title},
-			ID:      bd.ID, LabelX: num(best.X), LabelY: num(best.Y + 4), LabelCls: lcls,
-		})
+		m.Buildings = append(m.Buildings, shape)
 	}
 
 	opened := map[string]bool{}
@@ -406,6 +471,13 @@ func buildMap(ctx context.Context, r *route.Result, opt Options, med map[string]
 		taken = append(taken, c.at)
 	}
 	m.Keys = structureKeys(sts, p, taken, opt.lengthU)
+	m.Keys = slices.DeleteFunc(m.Keys, func(k countLabel) bool { return !inside(k.at) })
+	// A count on a building's label is left out too (the span's tooltip gives it).
+	m.Counts = slices.DeleteFunc(m.Counts, func(k countLabel) bool {
+		return !inside(k.at) || slices.ContainsFunc(boxes, func(b labelBox) bool {
+			return k.at.X > b.x0-countHalfPx && k.at.X < b.x1+countHalfPx && k.at.Y > b.y0-countHalfPx && k.at.Y < b.y1+countHalfPx
+		})
+	})
 	for _, e := range net.Entrances {
 		j, ok := net.Junction(e.Junction)
 		if !ok {
@@ -519,7 +591,11 @@ func (m mapView) HTML() template.HTML {
 		}
 		w("</g>\n")
 	}
-	w(`<svg class="map" viewBox="0 0 `, t(m.W), " ", t(m.H), `" role="img" aria-label="campus map with the planned routes">`, "\n")
+	label := m.Label
+	if label == "" {
+		label = "campus map with the planned routes"
+	}
+	w(`<svg class="map" viewBox="0 0 `, t(m.W), " ", t(m.H), `" role="img" aria-label="`, t(label), `">`, "\n")
 	w(`<rect x="0" y="0" width="`, t(m.W), `" height="`, t(m.H), `" class="map-bg"/>`, "\n")
 	paths("halos", m.Halos, "")
 	bs := make([]svgPath, len(m.Buildings))
@@ -565,8 +641,14 @@ func (m mapView) HTML() template.HTML {
 	marks("structures", m.Structures)
 	marks("turns", m.Turns)
 	marks("entrances", m.Entrances)
+	if f := m.Frame; f != nil {
+		w(`<path d="`, t(f.D), `" class="`, t(f.Class), `"><title>`, t(f.Title), `</title></path>`, "\n")
+	}
 	w(`<g class="labels">`)
 	for _, bd := range m.Buildings {
+		if bd.LabelX == "" {
+			continue // it would overlap another label (placeLabel) or lies outside the drawing
+		}
 		w(`<text x="`, t(bd.LabelX), `" y="`, t(bd.LabelY), `" class="`, t(bd.LabelCls), `" text-anchor="middle">`, t(bd.ID), `</text>`)
 	}
 	w("</g>\n", `<g class="keys">`)
@@ -599,6 +681,9 @@ func (m mapView) HTML() template.HTML {
 const (
 	countMinPx = 18.0
 	countGapPx = 16.0
+	// countHalfPx is half a one-digit count label's box (.cnt 10.5 px bold), for the building
+	// labels it must not cover.
+	countHalfPx = 4.0
 )
 
 // overRoutes draws what the routes would hide: the spans in a tunnel or on a pole line that
@@ -739,7 +824,7 @@ func structureKeys(sts []output.Structure, p *projection, taken []xy, length fun
 			continue
 		}
 		taken = append(taken, at)
-		out = append(out, countLabel{X: num(at.X), Y: num(at.Y), Text: strconv.Itoa(st.Mark),
+		out = append(out, countLabel{X: num(at.X), Y: num(at.Y), at: at, Text: strconv.Itoa(st.Mark),
 			Title: strconv.Itoa(st.Mark) + ": " + st.Place(length) + " (" + st.Status + ")"})
 	}
 	return out

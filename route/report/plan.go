@@ -227,10 +227,13 @@ type planView struct {
 	CostsH       string
 	Media        []mediumRow
 	Map          mapView
-	Legend       legend
-	Legs         []legRow
-	Infeasible   int
-	Wavelength   []int
+	// Core is the core's map, drawn larger below the whole campus's (coreBounds); nil when
+	// the whole map draws it large enough.
+	Core       *coreView
+	Legend     legend
+	Legs       []legRow
+	Infeasible int
+	Wavelength []int
 	// Attenuation is the cabled attenuation the loss budgets count, one entry per fibre
 	// construction the legs use (attenuationUsed).
 	Attenuation []string
@@ -605,11 +608,26 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 		return nil, err
 	}
 	v.Structures, v.StructuresListed = structureRows(sts, opt)
-	m, err := buildMap(ctx, r, opt, med, sts)
+	whole := drawnBounds(r)
+	core, inCore, hasCore := coreBounds(r, whole)
+	var frame *bounds
+	if hasCore {
+		frame = &core
+	}
+	m, err := buildMap(ctx, r, opt, med, sts, whole, frame)
 	if err != nil {
 		return nil, err
 	}
 	v.Map = m
+	if hasCore {
+		cm, err := buildMap(ctx, r, opt, med, sts, core, nil)
+		if err != nil {
+			return nil, err
+		}
+		cm.Label = "map of the campus core with the planned routes"
+		v.Core = &coreView{Map: cm, Buildings: inCore, Of: len(r.Site.Campus.Buildings)}
+		v.Core.caption(core, cm.pxPerM/m.pxPerM, opt)
+	}
 	v.Legend = legendOf(r, med, order, m)
 	return v, nil
 }

@@ -3,6 +3,7 @@ package routing
 import (
 	"cmp"
 	"fmt"
+	"maps"
 	"math"
 	"runtime"
 	"slices"
@@ -116,6 +117,10 @@ type layout struct {
 	lateral    bool            // some entrance edge carries a lateral
 	// groupOf numbers the spans' shared-risk groups (geo.Span.Group) from 1, in name order.
 	groupOf map[string]int
+	// spanGroup is each span's shared-risk group number (optimize.Edge.Group): groupOf of its
+	// group, or, for a pathway's own group parted at a one-entrance building's entrance
+	// (splitAtOnlyEntrances), the number of its side.
+	spanGroup []int
 	// classes are the span classes of the campus in a fixed order, and classBit each one's
 	// edge flag.
 	classes  []spanClass
@@ -339,6 +344,7 @@ func newLayout(s *site.Site) *layout {
 		}
 	}
 	l.groups = group - firstGroup
+	l.splitAtOnlyEntrances(net, spansAt, jIndex, group)
 	l.numberClasses(net)
 	// The entrance edges whose counted lateral taps a duct, by junction: they need the
 	// junction's handhole.
@@ -375,6 +381,98 @@ func newLayout(s *site.Site) *layout {
 		}
 	}
 	return l
+}
+
+// splitAtOnlyEntrances sets spanGroup: each span's group (groupOf), but a pathway's own
+// group (no group given: geo.Span.Group is its id) parted at the junction of each building's
+// only entrance (endEntry) that the pathway runs through, each side a group of its own,
+// numbered from next in the order of the sides' first spans. Two legs of a diverse link that
+// leave such an entrance along the one duct in opposite directions share the entrance and
+// its lateral, which the plan names as the single point of failure (legsOf, reason code
+// SPOF), not the duct beyond it: the sides meet nowhere else. Parted only where the sides are
+// joined by no other way along the pathway (a pathway drawn as a loop stays one group); a
+// group given on the campus is never parted (it may hold ducts drawn side by side that meet
+// nowhere). A site fact: the same for every plan on the site.
+func (l *layout) splitAtOnlyEntrances(net *geo.Network, spansAt [][]int, jIndex map[string]int, next int) {
+	l.spanGroup = make([]int, len(net.Spans))
+	for i, sp := range net.Spans {
+		l.spanGroup[i] = l.groupOf[sp.Group]
+	}
+	cut := map[string]bool{} // junctions of only entrances
+	for _, e := range l.endEntry {
+		cut[e.Junction] = true
+	}
+	own := func(i int) bool { return net.Spans[i].Group == net.Spans[i].PathwayID }
+	parted := map[string]bool{} // pathways with two or more of their spans at a cut
+	for _, j := range slices.Sorted(maps.Keys(cut)) {
+		n := map[string]int{}
+		for _, i := range spansAt[jIndex[j]] {
+			if own(i) {
+				n[net.Spans[i].PathwayID]++
+			}
+		}
+		for p, k := range n {
+			if k >= 2 {
+				parted[p] = true
+			}
+		}
+	}
+	if len(parted) == 0 {
+		return
+	}
+	// Union-find over each parted pathway's spans, joined at every junction but a cut.
+	up := make([]int, len(net.Spans))
+	for i := range up {
+		up[i] = i
+	}
+	find := func(i int) int {
+		for up[i] != i {
+			up[i] = up[up[i]]
+			i = up[i]
+		}
+		return i
+	}
+	for j, at := range spansAt {
+		if cut[net.Junctions[j].ID] {
+			continue
+		}
+		first := map[string]int{}
+		for _, i := range at {
+			p := net.Spans[i].PathwayID
+			if !parted[p] || !own(i) {
+				continue
+			}
+			if f, ok := first[p]; ok {
+				if a, b := find(f), find(i); a != b {
+					up[max(a, b)] = min(a, b)
+				}
+			} else {
+				first[p] = i
+			}
+		}
+	}
+	// The side holding a pathway's first span keeps the group; each other side, in the order
+	// of its first span, takes the next number.
+	keeps := map[string]int{} // pathway → the root of its first span's side
+	side := map[int]int{}     // root → group
+	for i, sp := range net.Spans {
+		if !parted[sp.PathwayID] || !own(i) {
+			continue
+		}
+		r := find(i)
+		k, ok := keeps[sp.PathwayID]
+		switch {
+		case !ok:
+			keeps[sp.PathwayID] = r
+		case k == r:
+		default:
+			if _, ok := side[r]; !ok {
+				side[r] = next
+				next++
+			}
+			l.spanGroup[i] = side[r]
+		}
+	}
 }
 
 // markJoin records node n as a run, with a proposed span in it, where new pathway joins the

@@ -162,8 +162,9 @@ func legsOf(s *site.Site, cm *Model, lay *layout, prob *optimize.Problem, rt *op
 			fillLeg(s, cm, lay, &d, rt.Secondary, rt.Medium, info, built)
 			// Both legs leave a building with one entrance by it: diverse outside, not there.
 			for _, b := range []string{l.To, l.From} {
-				if e, one := lay.endEntry[b]; one && d.Feasible {
-					d.Choice += fmt.Sprintf("; both legs use building %s's only entrance %s, a single point of failure", b, e.ID)
+				if w, one := stemOf(lay, prob, b); one && d.Feasible {
+					d.Choice += fmt.Sprintf("; both legs use %s, a single point of failure: %s", w.text(s, lay),
+						secondEntrance(s, lay, w, cm.design.MaxLateralM, cm.design.AllowNewTrench))
 					d.ReasonCode = CodeSharedPt
 				}
 			}
@@ -174,7 +175,11 @@ func legsOf(s *site.Site, cm *Model, lay *layout, prob *optimize.Problem, rt *op
 				d.ReasonCode = CodeSharedPt
 			}
 		} else {
-			d.Reason, d.ReasonCode = NoDiverseRoute+singlePoint(s, lay, prob, rt.SinglePoint, rt.Note), CodeNoDiverse
+			why := onlyWayIn(s, cm, lay, prob, l, rt.SinglePoint)
+			if why == "" {
+				why = singlePoint(s, lay, prob, rt.SinglePoint, rt.Note)
+			}
+			d.Reason, d.ReasonCode = NoDiverseRoute+why, CodeNoDiverse
 		}
 		legs = append(legs, d)
 	}
@@ -474,7 +479,11 @@ func NoDiverse(s *site.Site, m *Model, links []site.Link) (map[int]string, error
 	}
 	out := make(map[int]string, len(points))
 	for d, sp := range points {
-		out[index[d]] = NoDiverseRoute + singlePoint(s, lay, prob, &sp, "")
+		why := onlyWayIn(s, m, lay, prob, &diverse[d], &sp)
+		if why == "" {
+			why = singlePoint(s, lay, prob, &sp, "")
+		}
+		out[index[d]] = NoDiverseRoute + why
 	}
 	return out, nil
 }

@@ -1,0 +1,181 @@
+package route_test
+
+import (
+	"strings"
+	"testing"
+
+	"spanwright/route/internal/testplan"
+	"spanwright/route/internal/testsite"
+	"spanwright/route/routing"
+)
+
+// A diverse link to a building with one entrance (tester 13's F-G). The campus: hub A entered
+// from two streets, S (y = 0) and N (y = 100), joined at both ends (W, E) into a ring. B stands
+// 10 m off S with no pathway of its own: a counted lateral taps S at x = 150. C is reached only
+// by a lateral drawn as a pathway, LC, from its wall to N. TIA-569 asks diverse entrance
+// pathways of critical buildings (from memory); with one entrance the entrance and its lateral
+// are shared whatever the routes, and the plan must say so (common practice, no published
+// source, for what a designer does then: build the two routes apart beyond the shared entrance
+// and name it, or name it and what would fix it).
+func oneEntranceCampus(streetS string, more ...string) string {
+	return collection(append([]string{testsite.Box("A", "mc", 50, 50), testsite.Box("B", "", 150, 20), testsite.Box("C", "", 220, 60),
+		streetS, duct("N", 0, 100, 50, 100, 220, 100, 300, 100),
+		duct("W", 0, 0, 0, 100), duct("E", 300, 0, 300, 100),
+		duct("LA1", 50, 0, 50, 45), duct("LA2", 50, 100, 50, 55), duct("LC", 220, 70, 220, 100),
+		handhole("H1", 50, 0), handhole("H2", 50, 100), handhole("H3", 0, 0), handhole("H4", 0, 100),
+		handhole("H5", 300, 0), handhole("H6", 300, 100), handhole("H7", 220, 100)}, more...)...)
+}
+
+// TestDiverseOneEntranceTap: B's only entrance is a counted lateral tapping S. The two legs
+// leave the tap along S in opposite directions, west to A's lateral LA1 and east round the
+// ring to LA2: they share the entrance, the lateral and the tap's handhole, nothing else (S's
+// two sides meet only at the tap). Both legs are planned and priced, the diverse leg flagged
+// SPOF naming the entrance and its lateral, not S's shared-risk group (before the fix: NO-DIVERSE,
+// "every route found shares the shared-risk group S", both unpriced).
+func TestDiverseOneEntranceTap(t *testing.T) {
+	t.Parallel()
+	r, err := testplan.PullSolveJSON(t, oneEntranceCampus(duct("S", 0, 0, 50, 0, 300, 0)), diverse("B"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var legs []routing.Leg
+	for _, l := range r.Legs {
+		if l.Link.To == "B" {
+			legs = append(legs, l)
+		}
+	}
+	if len(legs) != 2 {
+		t.Fatalf("A-B legs: %+v", legs)
+	}
+	for _, l := range legs {
+		if !l.Feasible || l.Cost.TotalCents() <= 0 {
+			t.Fatalf("%s leg: feasible %v, cost %d cents, reason %q; want planned and priced", l.Name, l.Feasible, l.Cost.TotalCents(), l.Reason)
+		}
+		if l.EntranceTo != "B:1" {
+			t.Errorf("%s leg enters B by %q, want its only entrance B:1", l.Name, l.EntranceTo)
+		}
+		// The counted lateral, 10 m from the footprint to S (a 20 m box centred 20 m off S).
+		if l.LateralM < 10-0.1 || l.LateralM > 10+0.1 {
+			t.Errorf("%s leg lateral %.2f m, want 10 m", l.Name, l.LateralM)
+		}
+	}
+	d := legs[1]
+	if d.Name != routing.LegDiverse || d.ReasonCode != routing.CodeSharedPt {
+		t.Fatalf("second leg %s code %q, want the diverse leg with %s", d.Name, d.ReasonCode, routing.CodeSharedPt)
+	}
+	// No other pathway within design.max_lateral_m (30 m) of B but S, which the lateral taps
+	// (N is 70 m off): the fix is a proposed pathway to its wall.
+	for _, want := range []string{"both legs use building B's only entrance B:1 and its 10.0 m lateral to junction ", "a single point of failure",
+		"a second entrance to building B on another pathway would make the link diverse, but no other pathway passes within design.max_lateral_m 30 m of it: it needs a proposed pathway drawn to its wall, which the plan may build and would price"} {
+		if !strings.Contains(d.Choice, want) {
+			t.Errorf("diverse leg's note lacks %q: %s", want, d.Choice)
+		}
+	}
+	if strings.Contains(d.Choice, "shared-risk group") {
+		t.Errorf("diverse leg's note names a shared-risk group: %s", d.Choice)
+	}
+	// Apart beyond the tap: the legs share no span, and go opposite ways along S.
+	spans := map[string]bool{}
+	for _, st := range legs[0].Steps {
+		spans[st.SpanID] = true
+	}
+	for _, st := range d.Steps {
+		if spans[st.SpanID] {
+			t.Errorf("both legs use span %s", st.SpanID)
+		}
+	}
+	if !strings.Contains(strings.Join(legs[0].Pathways, " ")+" "+strings.Join(d.Pathways, " "), "E") {
+		t.Errorf("no leg goes round by E: %v / %v", legs[0].Pathways, d.Pathways)
+	}
+}
+
+// TestDiverseOneEntranceGroupGiven: the same, with S given a shared-risk group on the campus
+// ("south bank"): the campus says the bank fails as one, so the legs may not both run in it, and
+// no second route exists. The reason names B's entrance and lateral and the group, and what
+// would fix it.
+func TestDiverseOneEntranceGroupGiven(t *testing.T) {
+	t.Parallel()
+	s := strings.Replace(duct("S", 0, 0, 50, 0, 300, 0), `"type":"duct"`, `"type":"duct","group":"south bank"`, 1)
+	r, err := testplan.PullSolveJSON(t, oneEntranceCampus(s), diverse("B"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, l := range r.Legs {
+		if l.Link.To != "B" || l.Name != routing.LegDiverse {
+			continue
+		}
+		if l.Feasible || l.ReasonCode != routing.CodeNoDiverse {
+			t.Fatalf("diverse leg feasible %v code %q, want %s", l.Feasible, l.ReasonCode, routing.CodeNoDiverse)
+		}
+		for _, want := range []string{"every route must use building B's only entrance B:1 and its 10.0 m lateral to junction ",
+			"and leave it along shared-risk group south bank, a single point of failure", "a second entrance to building B"} {
+			if !strings.Contains(l.Reason, want) {
+				t.Errorf("reason lacks %q: %s", want, l.Reason)
+			}
+		}
+		return
+	}
+	t.Fatal("no diverse leg to B")
+}
+
+// TestDiverseOneEntranceDrawnLateral: C's only way in is LC, a lateral drawn as a pathway from
+// its wall to N: every route uses it (a shared span the optimizer's pair may not share), so no
+// second route; the reason names C's entrance and LC up to the junction on N where ways part,
+// as the single point of failure, with what would fix it (before: "every route uses span LC
+// (pathway LC)", no word of the entrance or a fix). `check` says the same beforehand.
+func TestDiverseOneEntranceDrawnLateral(t *testing.T) {
+	t.Parallel()
+	r, err := testplan.PullSolveJSON(t, oneEntranceCampus(duct("S", 0, 0, 50, 0, 300, 0)), diverse("C"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, l := range r.Legs {
+		if l.Link.To != "C" {
+			continue
+		}
+		if l.Name == routing.LegPrimary {
+			if !l.Feasible {
+				t.Fatalf("primary leg infeasible: %s", l.Reason)
+			}
+			continue
+		}
+		if l.Feasible || l.ReasonCode != routing.CodeNoDiverse {
+			t.Fatalf("diverse leg feasible %v code %q, want %s", l.Feasible, l.ReasonCode, routing.CodeNoDiverse)
+		}
+		// N, 30 m off C, is where ways part (shares the way in's risk); S is 50 m off.
+		for _, want := range []string{"no diverse route: every route must use building C's only entrance ", " and its one way on, span LC (pathway LC), to junction ",
+			", a single point of failure; a second entrance to building C on another pathway would make the link diverse, but no other pathway passes within design.max_lateral_m 30 m of it"} {
+			if !strings.Contains(l.Reason, want) {
+				t.Errorf("reason lacks %q: %s", want, l.Reason)
+			}
+		}
+		return
+	}
+	t.Fatal("no diverse leg to C")
+}
+
+// TestDiverseOneEntranceSuggests: with a duct M looping 15 m north of B (from S at x = 100 up,
+// along y = 45 and down to S at x = 200), the SPOF note names M as where a second entrance
+// would go, at its distance: within design.max_lateral_m (30 m), a declared entrance facing
+// it gets a counted lateral (Build). Not built: B keeps its one entrance.
+func TestDiverseOneEntranceSuggests(t *testing.T) {
+	t.Parallel()
+	r, err := testplan.PullSolveJSON(t, oneEntranceCampus(duct("S", 0, 0, 50, 0, 300, 0), duct("M", 100, 0, 100, 45, 200, 45, 200, 0)), diverse("B"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, l := range r.Legs {
+		if l.Link.To != "B" || l.Name != routing.LegDiverse {
+			continue
+		}
+		if !l.Feasible || l.ReasonCode != routing.CodeSharedPt || l.EntranceTo != "B:1" {
+			t.Fatalf("diverse leg feasible %v code %q entrance %s: %s", l.Feasible, l.ReasonCode, l.EntranceTo, l.Reason)
+		}
+		want := "a second entrance to building B facing pathway M, 15.0 m from its footprint, would make the link diverse (declared there, within design.max_lateral_m 30 m, it gets a lateral the plan lays and prices)"
+		if !strings.Contains(l.Choice, want) {
+			t.Errorf("note lacks %q: %s", want, l.Choice)
+		}
+		return
+	}
+	t.Fatal("no diverse leg to B")
+}
