@@ -67,10 +67,12 @@ func TestReadingNits(t *testing.T) {
 		t.Errorf("got %+v, want one warning for the file", c.warns)
 	}
 
-	_, err = Parse("c.geojson", []byte(`{"type":"FeatureCollection","features":[`+building("B-1", `,"riser_m":"7,5"`)+","+building("B-2", `,"riser_m":"1,234.5"`)+`]}`))
+	_, err = Parse("c.geojson", []byte(`{"type":"FeatureCollection","features":[`+building("B-1", `,"riser_m":"7,5"`)+","+building("B-2", `,"riser_m":"1,234.5"`)+","+building("B-3", `,"riser_m":"1,200"`)+`]}`))
 	for _, w := range []string{
 		`c.geojson: feature #0 "B-1": property "riser_m": want metres from 0 to 1000, got string "7,5" (a decimal comma? write 7.5, with a point and without quotes)`,
 		`c.geojson: feature #1 "B-2": property "riser_m": want metres from 0 to 1000, got string "1,234.5"` + "\n",
+		// Three digits after the comma read as well as a thousands separator (review 18 F7).
+		`c.geojson: feature #2 "B-3": property "riser_m": want metres from 0 to 1000, got string "1,200" (a thousands separator? write 1200; a decimal comma? write 1.200; with no quotes)`,
 	} {
 		if err == nil || !strings.Contains(err.Error()+"\n", w) {
 			t.Errorf("got %v, want it to contain %s", err, w)

@@ -54,8 +54,18 @@ func middleOf(c *Campus) (mid orb.Point, ok bool) {
 	if len(xs) == 0 {
 		return orb.Point{}, false
 	}
-	return orb.Point{median(xs), median(ys)}, true
+	// Longitudes are taken around the first one, so that a campus astride the 180th meridian
+	// has its middle there, not half a world away (review 18 F4), and put back in range.
+	ref := xs[0]
+	for i, x := range xs {
+		xs[i] = ref + math.Remainder(x-ref, 360)
+	}
+	return orb.Point{math.Remainder(median(xs), 360), median(ys)}, true
 }
+
+// straddles reports whether position p, near mid (far says no), lies across the 180th meridian
+// from it: their longitudes are more than 180 degrees apart as written.
+func straddles(mid, p orb.Point) bool { return finite(p) && math.Abs(p[0]-mid[0]) > 180 }
 
 // median returns the median of xs (the mean of the two middle values of an even count),
 // sorting xs.
@@ -139,9 +149,13 @@ func (l *loader) checkFar() {
 	}
 	var list []*farUse
 	var cur *farUse
+	var across *farUse // the first feature across the 180th meridian from the middle
 	featurePositions(c, func(src Source, id string, p orb.Point) bool {
 		d, isFar := far(mid, p)
 		if !isFar {
+			if across == nil && straddles(mid, p) {
+				across = &farUse{src: src, id: id, first: p}
+			}
 			return true
 		}
 		if cur == nil || cur.src != src || cur.id != id {
@@ -160,6 +174,13 @@ func (l *loader) checkFar() {
 			Err: problemf(ErrBadGeometry, "want positions within %s of the middle of the campus (%s, %s), got %s, %s, %s away%s%s",
 				kmText(FarM), fmtCoord(round6(mid[0])), fmtCoord(round6(mid[1])), fmtCoord(f.first[0]), fmtCoord(f.first[1]),
 				kmText(f.distM), more, farHint(mid, f.first))})
+	}
+	if across != nil {
+		// The local projection (builder.project) takes longitudes as written: across the
+		// meridian it would put the two sides 360 degrees apart, or plan lengths wrong.
+		l.errs.Add(&input.Problem{File: across.src.File, Feature: across.src.Feature(across.id), Key: "geometry",
+			Err: problemf(ErrBadGeometry, "want a campus on one side of the 180th meridian, got %s, %s across it from the middle of the campus (%s, %s): spanwright does not plan a campus astride it; shift every longitude of the campus by the same amount (for example add 360 to the negative ones and subtract 180 from all) and plan that",
+				fmtCoord(across.first[0]), fmtCoord(across.first[1]), fmtCoord(round6(mid[0])), fmtCoord(round6(mid[1])))})
 	}
 }
 

@@ -215,3 +215,38 @@ func TestFarWithOtherProblems(t *testing.T) {
 		t.Errorf("got\n%v", err)
 	}
 }
+
+// TestAntimeridianCampus: a campus astride the 180th meridian (a building at 179.9995 E, its
+// pathway running on to 179.9995 W) has its middle there, not half a world away (review 18
+// F4: every feature was refused as "6493 km away"), and is refused once, naming a feature
+// across the meridian and how to shift the campus: the local projection takes longitudes as
+// written. The same campus shifted west by one degree (every longitude, as the message says)
+// plans; so does one just short of the meridian.
+func TestAntimeridianCampus(t *testing.T) {
+	t.Parallel()
+	campus := func(lonA, lonB float64) string {
+		return fmt.Sprintf(`{"type":"FeatureCollection","features":[
+{"type":"Feature","properties":{"kind":"building","id":"B-1"},"geometry":{"type":"Polygon","coordinates":[[[%[1]g,-16.5],[%[2]g,-16.5],[%[2]g,-16.4998],[%[1]g,-16.4998],[%[1]g,-16.5]]]}},
+{"type":"Feature","properties":{"kind":"pathway","id":"P-1","type":"duct"},"geometry":{"type":"LineString","coordinates":[[%[1]g,-16.4997],[%[3]g,-16.4997]]}},
+{"type":"Feature","properties":{"kind":"structure","id":"MH-1","type":"maintenance-hole"},"geometry":{"type":"Point","coordinates":[%[3]g,-16.4997]}}
+]}`, lonA, lonA+0.0002, lonB)
+	}
+	_, err := Parse("t.geojson", []byte(campus(179.9995, -179.9995)))
+	var ps *input.Problems
+	if !errors.As(err, &ps) || ps.Len() != 1 {
+		t.Fatalf("astride: got %v, want one problem", err)
+	}
+	for _, w := range []string{"want a campus on one side of the 180th meridian", "across it from the middle of the campus (179.9996, -16.4997)", "shift every longitude"} {
+		if !strings.Contains(err.Error(), w) {
+			t.Errorf("astride: got\n%v\nwant it to contain %q", err, w)
+		}
+	}
+	if strings.Contains(err.Error(), "km away") {
+		t.Errorf("astride: a feature called far: %v", err)
+	}
+	for _, ok := range [][2]float64{{178.9995, 179.0005}, {179.9985, 179.9995}} {
+		if _, err := Parse("t.geojson", []byte(campus(ok[0], ok[1]))); err != nil {
+			t.Errorf("%v: %v", ok, err)
+		}
+	}
+}

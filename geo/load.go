@@ -1239,6 +1239,10 @@ func (f *feature) num(key string, def float64, r input.Range) float64 {
 			} else if dot := strings.Replace(t, ",", ".", 1); strings.Count(t, ",") == 1 && !strings.Contains(t, ".") {
 				if _, err := strconv.ParseFloat(dot, 64); err == nil {
 					hint = fmt.Sprintf(" (a decimal comma? write %s, with a point and without quotes)", dot)
+					if _, frac, _ := strings.Cut(t, ","); len(frac) == 3 {
+						// "1,200": as likely a thousands separator (review 18 F7).
+						hint = fmt.Sprintf(" (a thousands separator? write %s; a decimal comma? write %s; with no quotes)", strings.Replace(t, ",", "", 1), dot)
+					}
 				}
 			}
 		}

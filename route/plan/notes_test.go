@@ -20,6 +20,7 @@ func TestPlanNotes(t *testing.T) {
 	for _, tc := range []struct{ name, yaml, want string }{
 		{"a mapping", "campus: [c.geojson]\nnotes: [{a: 1}]\n", "plan.yaml:2:9: notes[0]: "},
 		{"not a list", "campus: [c.geojson]\nnotes: {a: 1}\n", "plan.yaml:2:8: notes: "},
+		{"an empty line", "campus: [c.geojson]\nnotes: [ok, \"  \"]\n", "notes[1]: "}, // review 18 F7
 	} {
 		if _, err := ParsePlan("plan.yaml", []byte(tc.yaml)); err == nil || !strings.Contains(err.Error(), tc.want) {
 			t.Errorf("%s: got %v, want a problem at %q", tc.name, err, tc.want)

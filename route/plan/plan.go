@@ -439,6 +439,11 @@ func (p *Plan) validate(errs *input.Problems) {
 			bad("campus", input.ErrMissingKey, "missing; name at least one campus file (GeoJSON, or GeoPackage .gpkg), or a campus_database")
 		}
 	}
+	for i, n := range p.Notes {
+		if strings.TrimSpace(n) == "" {
+			bad(fmt.Sprintf("notes[%d]", i), input.ErrBadValue, "want a line of text, got an empty one")
+		}
+	}
 	d := p.Defaults
 	if d.Redundancy != RedundancyNone && d.Redundancy != RedundancyDiverse {
 		bad("defaults.redundancy", input.ErrBadValue, "want %q or %q, got %q", RedundancyNone, RedundancyDiverse, d.Redundancy)
