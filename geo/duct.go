@@ -34,26 +34,12 @@ type smallDuct struct {
 // range and the unit that would make sense of the number; one warning per file, on the
 // first, when more than idWarningsEach do.
 func (l *loader) smallDuctWarnings() {
-	byFile := map[string][]smallDuct{}
-	var files []string
-	for _, d := range l.smallDucts {
-		if byFile[d.src.File] == nil {
-			files = append(files, d.src.File)
-		}
-		byFile[d.src.File] = append(byFile[d.src.File], d)
-	}
-	for _, file := range files {
-		ds := byFile[file]
-		if len(ds) <= idWarningsEach {
-			for _, d := range ds {
-				l.warn(d.src, d.id, smallDuctText(d.ductMM, ""))
-			}
-			continue
-		}
-		d := ds[0]
-		l.warn(d.src, d.id, smallDuctText(d.ductMM, fmt.Sprintf(" (%s of this file give less than %g mm too)",
-			input.Counted(len(ds)-1, "more pathway", "more pathways"), SmallestDuctMM)))
-	}
+	warnPerFile(l, l.smallDucts, func(d smallDuct) (Source, string) { return d.src, d.id },
+		func(d smallDuct) string { return smallDuctText(d.ductMM, "") },
+		func(d smallDuct, more int) string {
+			return smallDuctText(d.ductMM, fmt.Sprintf(" (%s of this file give less than %g mm too)",
+				input.Counted(more, "more pathway", "more pathways"), SmallestDuctMM))
+		})
 }
 
 // smallDuctText is the warning on a duct_mm of ductMM below SmallestDuctMM; more is said of

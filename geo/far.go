@@ -222,29 +222,23 @@ func (l *loader) clearGeometries() *Campus {
 	if len(bad) == 0 {
 		return &l.c
 	}
-	keep := func(s Source) bool { return !bad[s] }
-	c := Campus{}
-	for _, x := range l.c.Buildings {
-		if keep(x.Source) {
-			c.Buildings = append(c.Buildings, x)
+	return &Campus{
+		Buildings:  withSourceNotIn(l.c.Buildings, bad, func(x Building) Source { return x.Source }),
+		Pathways:   withSourceNotIn(l.c.Pathways, bad, func(x Pathway) Source { return x.Source }),
+		Structures: withSourceNotIn(l.c.Structures, bad, func(x Structure) Source { return x.Source }),
+		Entrances:  withSourceNotIn(l.c.Entrances, bad, func(x Entrance) Source { return x.Source }),
+	}
+}
+
+// withSourceNotIn returns the features of xs whose source (src) bad does not hold, in order.
+func withSourceNotIn[T any](xs []T, bad map[Source]bool, src func(T) Source) []T {
+	var out []T
+	for _, x := range xs {
+		if !bad[src(x)] {
+			out = append(out, x)
 		}
 	}
-	for _, x := range l.c.Pathways {
-		if keep(x.Source) {
-			c.Pathways = append(c.Pathways, x)
-		}
-	}
-	for _, x := range l.c.Structures {
-		if keep(x.Source) {
-			c.Structures = append(c.Structures, x)
-		}
-	}
-	for _, x := range l.c.Entrances {
-		if keep(x.Source) {
-			c.Entrances = append(c.Entrances, x)
-		}
-	}
-	return &c
+	return out
 }
 
 // farHint names the slip that brings the far position p back within FarM of mid: longitude

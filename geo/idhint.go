@@ -91,27 +91,15 @@ func blankEnds(id string) string {
 // id without it names nothing. Each is warned of, or, when a file has more than
 // idWarningsEach (a text column padded to its width by the export), one warning on the first.
 func (l *loader) blankIDWarnings() {
-	byFile := map[string][]idCand{}
-	var files []string
-	for _, b := range l.blankIDs {
-		if byFile[b.src.File] == nil {
-			files = append(files, b.src.File)
-		}
-		byFile[b.src.File] = append(byFile[b.src.File], b)
-	}
-	for _, file := range files {
-		bs := byFile[file]
-		if len(bs) <= idWarningsEach {
-			for _, b := range bs {
-				l.warn(b.src, b.id, fmt.Sprintf("its id %q %s: ids are matched exactly, so the plan and the campus must name it with the space; take the space out of the id",
-					b.id, blankEnds(b.id)))
-			}
-			continue
-		}
-		b := bs[0]
-		l.warn(b.src, b.id, fmt.Sprintf("its id %q %s, and so do those of %s of this file (a text column padded to its width?): ids are matched exactly, so the plan and the campus must name each with its spaces; take the spaces out of the ids",
-			b.id, blankEnds(b.id), input.Counted(len(bs)-1, "more feature", "more features")))
-	}
+	warnPerFile(l, l.blankIDs, func(b idCand) (Source, string) { return b.src, b.id },
+		func(b idCand) string {
+			return fmt.Sprintf("its id %q %s: ids are matched exactly, so the plan and the campus must name it with the space; take the space out of the id",
+				b.id, blankEnds(b.id))
+		},
+		func(b idCand, more int) string {
+			return fmt.Sprintf("its id %q %s, and so do those of %s of this file (a text column padded to its width?): ids are matched exactly, so the plan and the campus must name each with its spaces; take the spaces out of the ids",
+				b.id, blankEnds(b.id), input.Counted(more, "more feature", "more features"))
+		})
 }
 
 // groupWarnings warns of each shared-risk group given that differs from one given before

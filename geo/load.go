@@ -278,26 +278,41 @@ const idWarningsEach = 3
 // or one warning per file when a file has more than idWarningsEach (an export that writes
 // its own key as the member, say).
 func (l *loader) idWarnings() {
-	byFile := map[string][]idDiff{}
+	warnPerFile(l, l.idDiffers, func(d idDiff) (Source, string) { return d.src, d.id },
+		func(d idDiff) string {
+			return fmt.Sprintf("the Feature's \"id\" member %s differs from its \"id\" property %q; the property is the feature's id",
+				d.member, d.id)
+		},
+		func(d idDiff, more int) string {
+			return fmt.Sprintf("the Feature's \"id\" member %s differs from its \"id\" property %q, and so do those of %s of this file; the property is each feature's id",
+				d.member, d.id, input.Counted(more, "more feature", "more features"))
+		})
+}
+
+// warnPerFile warns of each finding of items (its source and feature id by at) with each's
+// text, or, for a file with more than idWarningsEach of them, once on its first with first's
+// text, told how many more the file has.
+func warnPerFile[T any](l *loader, items []T, at func(T) (Source, string), each func(T) string, first func(T, int) string) {
+	byFile := map[string][]T{}
 	var files []string
-	for _, d := range l.idDiffers {
-		if byFile[d.src.File] == nil {
-			files = append(files, d.src.File)
+	for _, x := range items {
+		src, _ := at(x)
+		if byFile[src.File] == nil {
+			files = append(files, src.File)
 		}
-		byFile[d.src.File] = append(byFile[d.src.File], d)
+		byFile[src.File] = append(byFile[src.File], x)
 	}
 	for _, file := range files {
-		ds := byFile[file]
-		if len(ds) <= idWarningsEach {
-			for _, d := range ds {
-				l.warn(d.src, d.id, fmt.Sprintf("the Feature's \"id\" member %s differs from its \"id\" property %q; the property is the feature's id",
-					d.member, d.id))
+		xs := byFile[file]
+		if len(xs) <= idWarningsEach {
+			for _, x := range xs {
+				src, id := at(x)
+				l.warn(src, id, each(x))
 			}
 			continue
 		}
-		d := ds[0]
-		l.warn(d.src, d.id, fmt.Sprintf("the Feature's \"id\" member %s differs from its \"id\" property %q, and so do those of %s of this file; the property is each feature's id",
-			d.member, d.id, input.Counted(len(ds)-1, "more feature", "more features")))
+		src, id := at(xs[0])
+		l.warn(src, id, first(xs[0], len(xs)-1))
 	}
 }
 

@@ -83,17 +83,7 @@ func (sv *solver) wantedRoom() []roomWish {
 		// Staying and the route with the room aside are priced as estimate prices a demand
 		// still in the plan: its own spans and charges as what leaving them saves (self), its
 		// own cable's place in the ducts as its own (markOwn), not as a cable more.
-		sv.endSelf()
-		for _, h := range c.legs[0] {
-			sv.self[h.Edge] = sv.selfSt
-		}
-		if sv.chOn {
-			sv.scanCharges(c)
-			for _, k := range sv.chTouch {
-				sv.chSelf[k] = selfUses{st: sv.selfSt, n: sv.chCnt[k]}
-			}
-		}
-		sv.markOwn(d, c)
+		sv.viewInPlace(d, c)
 		stay, barred := sv.weigh(d, c)
 		var hops []Hop
 		var w int64

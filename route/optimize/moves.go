@@ -695,19 +695,7 @@ func (sv *solver) estimate(d int) int64 {
 	if c.opt < 0 || sv.invalid[d] != "" {
 		return 0
 	}
-	sv.endSelf()
-	for _, leg := range c.legs {
-		for _, h := range leg {
-			sv.self[h.Edge] = sv.selfSt
-		}
-	}
-	if sv.chOn {
-		sv.scanCharges(c)
-		for _, k := range sv.chTouch {
-			sv.chSelf[k] = selfUses{st: sv.selfSt, n: sv.chCnt[k]}
-		}
-	}
-	sv.markOwn(d, c)
+	sv.viewInPlace(d, c)
 	defer sv.endOwn()
 	dm := &sv.p.Demands[d]
 	cur, barred := sv.weigh(d, c)
@@ -723,6 +711,25 @@ func (sv *solver) estimate(d int) int64 {
 	}
 	nc, _ := sv.weigh(d, nb)
 	return max(0, cur-nc)
+}
+
+// viewInPlace starts the in-place view of demand d, still in the plan on choice c, that
+// estimate weighs it in: its edges and charges as its own (self: what leaving them saves) and
+// its cable's place in the ducts as its own (markOwn). endSelf and endOwn end it.
+func (sv *solver) viewInPlace(d int, c choice) {
+	sv.endSelf()
+	for _, leg := range c.legs {
+		for _, h := range leg {
+			sv.self[h.Edge] = sv.selfSt
+		}
+	}
+	if sv.chOn {
+		sv.scanCharges(c)
+		for _, k := range sv.chTouch {
+			sv.chSelf[k] = selfUses{st: sv.selfSt, n: sv.chCnt[k]}
+		}
+	}
+	sv.markOwn(d, c)
 }
 
 // estKey names an estimate: a candidate run (openCand.key) and a demand.
