@@ -254,18 +254,25 @@ func CheckPlan(s *site.Site, p *plan.Plan, rep *site.CheckReport) error {
 // infeasible (ErrInfeasible); check says so beforehand. It returns Check's error when the
 // plan has a problem Check finds.
 func NoDiverse(s *site.Site, p *plan.Plan, eng *media.Engine) ([]string, error) {
+	return linkReasons(s, p, eng, routing.NoDiverse, func(l site.Link) string { return l.ID + "/" + routing.LegDiverse })
+}
+
+// linkReasons resolves the plan on the site and gives, in link order, one line for each link
+// find has a reason for: the building the link serves, the link or leg (name) and the reason.
+func linkReasons(s *site.Site, p *plan.Plan, eng *media.Engine,
+	find func(*site.Site, *routing.Model, []site.Link) (map[int]string, error), name func(site.Link) string) ([]string, error) {
 	prep, err := prepare(s, p, eng)
 	if err != nil {
 		return nil, err
 	}
-	why, err := routing.NoDiverse(s, prep.model, prep.links)
+	why, err := find(s, prep.model, prep.links)
 	if err != nil {
 		return nil, err
 	}
 	var out []string
 	for i, l := range prep.links {
 		if r, ok := why[i]; ok {
-			out = append(out, fmt.Sprintf("building %s, %s/%s: %s", l.To, l.ID, routing.LegDiverse, r))
+			out = append(out, fmt.Sprintf("building %s, %s: %s", l.To, name(l), r))
 		}
 	}
 	return out, nil
@@ -281,21 +288,7 @@ func TurnsOnly(s *site.Site, p *plan.Plan, eng *media.Engine) ([]string, error) 
 	if p.Design.TurnHandholes {
 		return nil, nil
 	}
-	prep, err := prepare(s, p, eng)
-	if err != nil {
-		return nil, err
-	}
-	why, err := routing.TurnsOnly(s, prep.model, prep.links)
-	if err != nil {
-		return nil, err
-	}
-	var out []string
-	for i, l := range prep.links {
-		if r, ok := why[i]; ok {
-			out = append(out, fmt.Sprintf("building %s, %s: %s", l.To, l.ID, r))
-		}
-	}
-	return out, nil
+	return linkReasons(s, p, eng, routing.TurnsOnly, func(l site.Link) string { return l.ID })
 }
 
 // prepared is a plan resolved on a site, ready to route.

@@ -379,7 +379,7 @@ var fixedColumns = slices.Concat([]column{
 // order (compare.csv's cost_<category>, compare.html's too): media.Categories and the bid
 // items.
 func SubtotalCategories() []string {
-	return []string{media.CategoryMaterial, media.CategoryLabour, media.CategoryConstruction, media.CategoryOptics, media.CategoryBidItems}
+	return append(media.Categories(), media.CategoryBidItems)
 }
 
 // Markups are the bill's markups the comparison gives a column of after the subtotals, in
