@@ -73,6 +73,15 @@ func TestBadInputFiles(t *testing.T) {
 		{"slack infinite", []string{"plan", "testdata/plans/inf_slack.yaml", "--out", out}, []string{"inf_slack.yaml:5:12: design.slack_m: want metres from 0 to 1000, got +Inf"}},
 		{"slack NaN", []string{"plan", "testdata/plans/nan_slack.yaml", "--out", out}, []string{"nan_slack.yaml:5:12: design.slack_m: want metres from 0 to 1000, got NaN"}},
 		{"lateral infinite", []string{"check", "testdata/plans/inf_lateral.yaml"}, []string{"inf_lateral.yaml:5:18: design.max_lateral_m: want metres above 0 and at most 1000, got +Inf"}},
+		// YAML 1.2.2 §10.3.2 (core schema): a plain 3 is an integer and true a boolean, not
+		// text; they were read as the notes "3" and "true". A quoted "3" is text and stays.
+		{"notes not text, check", []string{"check", "testdata/plans/notes_not_text.yaml"}, []string{
+			`notes_not_text.yaml:4:9: notes[0]: want text, got 3, which YAML reads as a number; quote it ("3") to keep it as written`,
+			`notes_not_text.yaml:4:12: notes[1]: want text, got true, which YAML reads as true or false; quote it ("true") to keep it as written`,
+			`notes_not_text.yaml:4:18: notes[2]: want text, got a mapping`}},
+		{"notes not text, plan", []string{"plan", "testdata/plans/notes_not_text.yaml", "--out", out}, []string{
+			`notes_not_text.yaml:4:9: notes[0]: want text, got 3`, `notes_not_text.yaml:4:12: notes[1]: want text, got true`,
+			`notes_not_text.yaml:4:18: notes[2]: want text, got a mapping`}},
 		{"sweep value NaN", []string{"sweep", sweepNaN, "--out", out, "--quiet"}, []string{"nan.sweep.yaml:3:23: vary: design.slack_m: want metres from 0 to 1000, got NaN"}},
 		// TIA-568.3-D: a splice loses 0.3 dB at most; 1e308 dB is a slip, not a design.
 		{"catalog loss huge", []string{"plan", "testdata/plans/ok.yaml", "--out", out, "--catalog", hugeCatalog}, []string{`huge-catalog.yaml:`, `huge-catalog.yaml:18:14: connections.splice_db: want dB from 0 to 100, got 1e+308`}},

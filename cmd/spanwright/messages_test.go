@@ -67,6 +67,8 @@ func TestMessageShapes(t *testing.T) {
 		{"plan key missing", plan("name: x\n"), "plan.yaml: campus: missing; name at least one campus file (GeoJSON, or GeoPackage .gpkg), or a campus_database"},
 		{"plan value not a choice", plan("campus: [c]\ndefaults: {redundancy: double}\n"),
 			`plan.yaml:2:24: defaults.redundancy: want "none" or "diverse", got "double"`},
+		{"plan text given as a number", plan("campus: [c]\nnotes: [3]\n"),
+			`plan.yaml:2:9: notes[0]: want text, got 3, which YAML reads as a number; quote it ("3") to keep it as written`},
 		{"plan amount", plan("campus: [c]\nbudget: 1.234\n"), `plan.yaml:2:9: budget: want an amount such as 1250000 or 99.95, got "1.234"`},
 
 		// Sweep file: its own keys, and each override checked as the plan would check it.

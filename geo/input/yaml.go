@@ -86,6 +86,10 @@ type loc struct {
 	item, field string
 	path        string // field with the items' own paths, for Where and RangeOf
 	rng, keyRng *Range
+	// text is set inside a field tagged `scalar:"text"`: its strings must be text as YAML
+	// reads it (a quoted or plain scalar that is no number, true/false, date or null),
+	// never a number or true/false taken as the text "3" or "true".
+	text bool
 }
 
 func (l loc) child(name string) loc {
@@ -306,6 +310,7 @@ func (d *Decoder) structure(n *yaml.Node, v reflect.Value, at loc) {
 			continue
 		}
 		kl.rng, kl.keyRng = d.tagRange(t.Field(fi), "range"), d.tagRange(t.Field(fi), "keyrange")
+		kl.text = t.Field(fi).Tag.Get("scalar") == "text"
 		fv := v.Field(fi)
 		if label := t.Field(fi).Tag.Get("item"); label != "" && fv.Kind() == reflect.Slice {
 			d.sequence(val, fv, kl, label)
@@ -537,7 +542,11 @@ func WantOf(k reflect.Kind) string {
 func (d *Decoder) scalar(n *yaml.Node, v reflect.Value, at loc) bool {
 	n = Resolve(n)
 	bad := func() bool {
-		d.fail(n, at, Errorf(ErrWrongType, "want %s, got %s", WantOf(v.Kind()), KindName(n)))
+		want := WantOf(v.Kind())
+		if at.text && v.Kind() == reflect.String {
+			want = "text"
+		}
+		d.fail(n, at, Errorf(ErrWrongType, "want %s, got %s", want, KindName(n)))
 		return false
 	}
 	if n.Kind != yaml.ScalarNode || n.Tag == "!!null" {
@@ -546,6 +555,14 @@ func (d *Decoder) scalar(n *yaml.Node, v reflect.Value, at loc) bool {
 	rng := d.rangeAt(at)
 	switch v.Kind() {
 	case reflect.String:
+		if read, ok := notText[n.Tag]; at.text && n.Tag != "!!str" {
+			if !ok {
+				read = "something other than text"
+			}
+			d.fail(n, at, Errorf(ErrWrongType, "want text, got %s, which YAML reads as %s; quote it (%s) to keep it as written",
+				n.Value, read, strconv.Quote(n.Value)))
+			return false
+		}
 		v.SetString(n.Value)
 	case reflect.Bool:
 		b, ok := yaml11Bools[n.Value]
@@ -600,6 +617,11 @@ func (d *Decoder) scalar(n *yaml.Node, v reflect.Value, at loc) bool {
 	}
 	return true
 }
+
+// notText is what YAML 1.2 (and yaml.v3's timestamps) reads a plain scalar as when it is
+// not text, by its resolved tag, for the message of a field that takes text only.
+var notText = map[string]string{"!!int": "a number", "!!float": "a number", "!!bool": "true or false",
+	"!!timestamp": "a date", "!!binary": "binary data"}
 
 // yaml11Bools are the YAML 1.1 spellings of true and false (https://yaml.org/type/bool.html)
 // that YAML 1.2 reads as text; a key that holds true or false takes them, as yaml.v3 does.

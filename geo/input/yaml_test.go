@@ -20,6 +20,7 @@ type walkedFile struct {
 	Name  string       `yaml:"name"`
 	Links []walkedLink `yaml:"links"`
 	Loss  float64      `yaml:"loss_db" range:"db"`
+	Lines []string     `yaml:"lines" scalar:"text"`
 }
 
 // TestDecoder: one case per behaviour of the walker, each with every message it gives.
@@ -47,7 +48,7 @@ func TestDecoder(t *testing.T) {
 				}
 			}},
 		// https://yaml.org/type/merge.html: a key given in the mapping wins over a merged one.
-		{"merge key", "base: &b {to: A, strands: 6}\nlinks:\n  - <<: *b\n    strands: 12\n", "f.yaml:1:1: base: unknown key; want one of links, loss_db, name",
+		{"merge key", "base: &b {to: A, strands: 6}\nlinks:\n  - <<: *b\n    strands: 12\n", "f.yaml:1:1: base: unknown key; want one of lines, links, loss_db, name",
 			func(t *testing.T, f walkedFile, _ map[string]Pos) {
 				if len(f.Links) != 1 || f.Links[0].To != "A" || f.Links[0].Strands != 12 {
 					t.Errorf("links: got %+v, want to A with 12 strands", f.Links)
@@ -70,6 +71,21 @@ func TestDecoder(t *testing.T) {
 				}
 				if f.Links[0].Growth == nil || *f.Links[0].Growth != 0.5 {
 					t.Errorf("growth: got %v", f.Links[0].Growth)
+				}
+			}},
+		// YAML 1.2.2 §10.3.2 (core schema): plain 3, true and 1.5 resolve to an integer, a
+		// boolean and a float; yaml.v3 resolves 2026-12-05 to a timestamp. A field tagged
+		// scalar:"text" refuses them; quoted (§7.3) or tagged !!str they are text. A string
+		// field without the tag still reads a plain 3 as "3".
+		{"text only", "name: 3\nlines: [3, true, \"3\", '1.5', !!str 4, words, 1.5, 2026-12-05, {a: 1}]\n",
+			`f.yaml:2:9: lines[0]: want text, got 3, which YAML reads as a number; quote it ("3") to keep it as written` + "\n" +
+				`f.yaml:2:12: lines[1]: want text, got true, which YAML reads as true or false; quote it ("true") to keep it as written` + "\n" +
+				`f.yaml:2:46: lines[6]: want text, got 1.5, which YAML reads as a number; quote it ("1.5") to keep it as written` + "\n" +
+				`f.yaml:2:51: lines[7]: want text, got 2026-12-05, which YAML reads as a date; quote it ("2026-12-05") to keep it as written` + "\n" +
+				"f.yaml:2:63: lines[8]: want text, got a mapping",
+			func(t *testing.T, f walkedFile, _ map[string]Pos) {
+				if f.Name != "3" || len(f.Lines) != 9 || f.Lines[2] != "3" || f.Lines[3] != "1.5" || f.Lines[4] != "4" || f.Lines[5] != "words" {
+					t.Errorf("name %q, lines %q: want 3, and the quoted and plain text read", f.Name, f.Lines)
 				}
 			}},
 		{"not YAML", "name: [", "f.yaml:1: not YAML: did not find expected node content", nil},

@@ -218,10 +218,17 @@ type Construction struct {
 	// cable tray, a utility tunnel), by pathway type, each the bill's line of
 	// items.NewPathway, to 0.1 m as TrenchM; not in NewM.
 	PathwayM map[string]float64
-	// NewM is all new civil work in metres, trenched or bored: the sum of the bill's trench
-	// and bore lines (TrenchM and BoreM, each to 0.1 m as the bill rounds a line), which the
-	// Pieces' ListedM add up to (listPieces); computed once here and printed from here
-	// everywhere (summary, terminal, report, sweeps).
+	// ByKind is the new construction by kind: every kind of NewKinds in order, 0 where the
+	// plan builds none: trench the bill's trench lines of every surface added up, bore its
+	// bore line, a pole line, cable tray or utility tunnel its line of PathwayM, each the
+	// metres the bill charges (listPieces). Computed once here and printed from here
+	// everywhere (summary.json's new_construction_m, the terminal, the report, the sweep's
+	// rows and comparisons).
+	ByKind []KindM
+	// NewM is all new civil work in metres, trenched or bored: the trench and bore of ByKind
+	// (the sum of the bill's trench and bore lines, each to 0.1 m as the bill rounds a line),
+	// which the Pieces' ListedM add up to (listPieces); printed from here everywhere
+	// (summary.json's new_trench_m, terminal, report, sweeps).
 	NewM float64
 	// LateralM is the part of NewM that is building laterals counted as new construction
 	// (Entrances with a LateralM): built whether or not the plan may open new spans; the
@@ -277,6 +284,18 @@ type Construction struct {
 	// (design.cables_per_duct): computed once here, from each span's routing.ForCount, and
 	// printed from here everywhere (terminal, summary.json, report).
 	ForCount CountWork
+}
+
+// NewKinds are the kinds of new construction, in the order every output lists them: how
+// new work is built (items.MethodOf), trench (with the restoration of its surface) or
+// directional bore for a dug pathway (items.Dug), and for a proposed pathway that is not dug
+// its type: a pole line (aerial), a cable tray, a utility tunnel (items.NewPathway).
+var NewKinds = []string{geo.MethodTrench, geo.MethodBore, geo.TypeAerial, geo.TypeTray, geo.TypeTunnel}
+
+// KindM is the metres of new construction of one kind of NewKinds (Construction.ByKind).
+type KindM struct {
+	Kind    string
+	LengthM float64
 }
 
 // CountWork is the new work laid only because of the count of pulls a duct
@@ -1239,6 +1258,7 @@ func (c *Construction) listPieces() {
 	}
 	c.NewM, c.LateralM, c.Assumed = 0, 0, nil
 	typeOf := func(line string) (string, bool) { return strings.CutPrefix(line, keyPathway) }
+	kindDM := map[string]int64{} // decimetres of each kind of NewKinds, added up as billed
 	for _, l := range lines {
 		total := c.BoreM
 		if t, ok := typeOf(l); ok {
@@ -1276,17 +1296,26 @@ func (c *Construction) listPieces() {
 		// the feet an imperial bill converts from it, are those of the listed pieces.
 		if t, ok := typeOf(l); ok {
 			c.PathwayM[t] = float64(lineDM) / 10
+			kindDM[t] += lineDM
 		} else if l == keyBore {
 			c.BoreM = float64(lineDM) / 10
+			kindDM[geo.MethodBore] += lineDM
 		} else {
 			c.TrenchM[l] = float64(lineDM) / 10
+			kindDM[geo.MethodTrench] += lineDM
 		}
+	}
+	c.NewM = float64(kindDM[geo.MethodTrench]+kindDM[geo.MethodBore]) / 10
+	c.ByKind = make([]KindM, 0, len(NewKinds))
+	for _, k := range NewKinds {
+		c.ByKind = append(c.ByKind, KindM{Kind: k, LengthM: float64(kindDM[k]) / 10})
+		delete(kindDM, k)
+	}
+	if len(kindDM) > 0 { // a pathway type not dug that NewKinds does not list yet
+		panic("estimate: new construction of a kind NewKinds lacks: " + strings.Join(slices.Sorted(maps.Keys(kindDM)), ", "))
 	}
 	c.pieceOfSpan, c.pieceOfLateral = map[string]int{}, map[[2]string]int{}
 	for i, w := range c.Pieces {
-		if _, ok := typeOf(w.line); !ok {
-			c.NewM += w.ListedM
-		}
 		if w.Span == "" {
 			c.LateralM += w.ListedM
 			c.pieceOfLateral[[2]string{w.Building, w.Entrance}] = i
@@ -1297,7 +1326,7 @@ func (c *Construction) listPieces() {
 			c.Assumed = append(c.Assumed, AssumedWork{From: w.source, LengthM: w.ListedM, Lateral: w.Span == ""})
 		}
 	}
-	c.NewM, c.LateralM = float64(int64(math.Round(c.NewM*10)))/10, float64(int64(math.Round(c.LateralM*10)))/10
+	c.LateralM = float64(int64(math.Round(c.LateralM*10))) / 10
 }
 
 // PieceOf is the new work along span id (opened, or a trench beside it for added ducts);

@@ -3,6 +3,7 @@ package estimate
 import (
 	"math"
 	"math/rand/v2"
+	"slices"
 	"testing"
 
 	"spanwright/geo"
@@ -24,11 +25,18 @@ func TestListPiecesAddUp(t *testing.T) {
 	}
 	c.BoreM = 20.04
 	c.Pieces = append(c.Pieces, WorkPiece{Span: "P-5", Method: geo.MethodBore, LengthM: 20.04, line: keyBore})
+	c.PathwayM = map[string]float64{geo.TypeAerial: 100.06}
+	c.Pieces = append(c.Pieces, WorkPiece{Span: "P-6", Method: geo.TypeAerial, LengthM: 100.06, line: keyPathway + geo.TypeAerial})
 	c.listPieces()
 	if c.NewM != 66.2 || c.LateralM != 46.2 {
 		t.Errorf("new %v m, laterals %v m; want 66.2 (46.2 of turf + 20.0 of bore, as the bill's lines) and 46.2", c.NewM, c.LateralM)
 	}
-	want := []float64{17.0, 17.1, 12.1, 20.0} // 17.07 and 12.04 have the largest remainders
+	// By kind, every kind in order: the bill's lines (a pole line is no trench: not in NewM).
+	wantKinds := []KindM{{geo.MethodTrench, 46.2}, {geo.MethodBore, 20.0}, {geo.TypeAerial, 100.1}, {geo.TypeTray, 0}, {geo.TypeTunnel, 0}}
+	if !slices.Equal(c.ByKind, wantKinds) || c.PathwayM[geo.TypeAerial] != 100.1 {
+		t.Errorf("by kind %v, pole line line %v: want %v", c.ByKind, c.PathwayM[geo.TypeAerial], wantKinds)
+	}
+	want := []float64{17.0, 17.1, 12.1, 20.0, 100.1} // 17.07 and 12.04 have the largest remainders
 	for i, w := range c.Pieces {
 		if w.ListedM != want[i] {
 			t.Errorf("piece %d (%.2f m): listed %v, want %v", i, w.LengthM, w.ListedM, want[i])
@@ -93,6 +101,13 @@ func TestListPiecesAddUp(t *testing.T) {
 		}
 		if math.Abs(c.NewM-lines) > 1e-9 {
 			t.Fatalf("trial %d: NewM %v, want the lines added up, %v", trial, c.NewM, lines)
+		}
+		var trench float64
+		for _, m := range c.TrenchM {
+			trench += m
+		}
+		if k := c.ByKind; len(k) != len(NewKinds) || math.Abs(k[0].LengthM-trench) > 1e-9 || k[1].LengthM != c.BoreM || math.Abs(k[0].LengthM+k[1].LengthM-c.NewM) > 1e-9 {
+			t.Fatalf("trial %d: by kind %v, want trench %v (the surfaces' lines) and bore %v adding up to NewM %v", trial, k, trench, c.BoreM, c.NewM)
 		}
 	}
 }

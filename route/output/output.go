@@ -445,7 +445,8 @@ func passageText(l *routing.Leg, tr travel) []string {
 // as its zero value (a reader that must tell "not kept" from zero keeps it as a pointer or nil
 // slice, as sweep.Row does for the comparison's blank cells). So are the members added after
 // format 2: cautions, planning_aid, splice_points_to_build, cables_per_duct, count_laid_*,
-// budget_feasible_legs_only, no_new_trench.
+// budget_feasible_legs_only, no_new_trench, new_construction_m (absent before: a reader
+// takes it as no breakdown, never as none built).
 const SummaryFormat = "spanwright summary 2"
 
 // Summary is the machine-readable digest of a planned scenario (summary.json).
@@ -462,9 +463,14 @@ type Summary struct {
 	// infeasible legs among those that leave the same legs unserved (sweep.Row.Unserved).
 	InfeasibleNames []string `json:"infeasible_leg_names,omitempty"`
 	TotalRouteM     float64  `json:"total_route_m"`
-	NewTrenchM      float64  `json:"new_trench_m"`    // new civil work, trenched or bored: opened pathways and trenches for added ducts
-	DiverseLinks    int      `json:"diverse_links"`   // links with two disjoint feasible legs
-	DiverseShort    int      `json:"diverse_missing"` // links that asked for a diverse route and did not get one
+	NewTrenchM      float64  `json:"new_trench_m"` // new civil work, trenched or bored: opened pathways and trenches for added ducts
+	// NewConstructionM is the new construction by kind (estimate.NewKinds: trench, bore,
+	// aerial for a pole line, tray, tunnel), in metres, each the bill's lines of that kind
+	// added up (estimate.Construction.ByKind): every kind given, 0 where the plan builds none.
+	// Its trench and bore add up to NewTrenchM.
+	NewConstructionM map[string]float64 `json:"new_construction_m"`
+	DiverseLinks     int                `json:"diverse_links"`   // links with two disjoint feasible legs
+	DiverseShort     int                `json:"diverse_missing"` // links that asked for a diverse route and did not get one
 	// DiverseSinglePoint counts, of DiverseLinks, those whose two routes still share a single
 	// point of failure (the only entrance of a building at either end, a junction where their
 	// ducts cross with no structure): reason_code SPOF on the diverse leg
@@ -655,20 +661,46 @@ func NewWorkParts(c estimate.Construction, length func(m float64) string) string
 	return strings.Join(of, "; ")
 }
 
-// NewPathwayText is the proposed pathways the plan opens that are not dug
-// (estimate.Construction.PathwayM, outside the new trench figure), with lengths written by
-// length: "new pole line 751.3 m, new cable tray 12.0 m", "" when none.
-func NewPathwayText(c estimate.Construction, length func(m float64) string) string {
-	names := map[string]string{geo.TypeAerial: "new pole line", geo.TypeTray: "new cable tray", geo.TypeTunnel: "new utility tunnel"}
+// kindNames are the words for people of each kind of new construction (estimate.NewKinds).
+var kindNames = map[string]string{geo.MethodTrench: "trench", geo.MethodBore: "directional bore",
+	geo.TypeAerial: "pole line", geo.TypeTray: "cable tray", geo.TypeTunnel: "utility tunnel"}
+
+// KindName is the words for people of a kind of new construction (estimate.NewKinds):
+// "trench", "directional bore", "pole line", "cable tray", "utility tunnel".
+func KindName(kind string) string {
+	if n, ok := kindNames[kind]; ok {
+		return n
+	}
+	return kind
+}
+
+// NewConstructionText is the new construction by kind (estimate.Construction.ByKind) that
+// the plan builds, in the order of estimate.NewKinds, with lengths written by length:
+// "trench 156.5 m, directional bore 20.0 m, pole line 591.2 m", "" when none. The one text
+// of it the terminal and the report print.
+func NewConstructionText(byKind []estimate.KindM, length func(m float64) string) string {
 	var out []string
-	for _, t := range slices.Sorted(maps.Keys(c.PathwayM)) {
-		n, ok := names[t]
-		if !ok {
-			n = "new " + t + " pathway"
+	for _, k := range byKind {
+		if k.LengthM > 0 {
+			out = append(out, KindName(k.Kind)+" "+length(k.LengthM))
 		}
-		out = append(out, n+" "+length(c.PathwayM[t]))
 	}
 	return strings.Join(out, ", ")
+}
+
+// newConstructionM is summary.json's new_construction_m: every kind of estimate.NewKinds,
+// its metres of byKind (0 where none, and for every kind without an estimate).
+func newConstructionM(e *estimate.Estimate) map[string]float64 {
+	out := make(map[string]float64, len(estimate.NewKinds))
+	for _, k := range estimate.NewKinds {
+		out[k] = 0
+	}
+	if e != nil {
+		for _, k := range e.Construction.ByKind {
+			out[k.Kind] = k.LengthM
+		}
+	}
+	return out
 }
 
 // TotalsOf adds up the totals of r.
@@ -687,7 +719,8 @@ func Summarize(r *route.Result) Summary {
 	tot := TotalsOf(r)
 	s := Summary{Format: SummaryFormat, Scenario: r.Plan.Name, Hub: r.Hub, Buildings: len(r.Site.Campus.Buildings),
 		Links: len(r.Links), Legs: len(r.Legs), Warnings: append([]string{}, r.Warnings...), Notes: r.Notes,
-		MediaMix: map[string]int{}, Currency: r.Currency, NewTrenchM: round1(tot.NewM), CablesPerDuct: r.Plan.Design.CablesPerDuct,
+		MediaMix: map[string]int{}, Currency: r.Currency, NewTrenchM: round1(tot.NewM),
+		NewConstructionM: newConstructionM(r.Estimate), CablesPerDuct: r.Plan.Design.CablesPerDuct,
 		StartedFrom: r.StartedFrom, Cautions: []SummaryCaution{}, PlanningAid: route.PlanningAid}
 	for _, c := range r.Cautions {
 		s.Cautions = append(s.Cautions, SummaryCaution{ID: c.ID, Title: c.Title, Where: c.WhereIn(estimate.MetresText), Source: c.Source})
@@ -937,9 +970,6 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 	if of := NewWorkParts(c, length); of != "" {
 		bored = " (" + of + ")"
 	}
-	if built := NewPathwayText(c, length); built != "" {
-		bored += ", " + built
-	}
 	taps := ""
 	if len(c.TapJunctions) > 0 {
 		taps = fmt.Sprintf(", %d where laterals tap a duct or a pole line", len(c.TapJunctions))
@@ -955,6 +985,9 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 	splices := ""
 	if n := s.SplicePointsToBuild; n > 0 {
 		splices = "; and " + Counted(n, "splice point", "splice points") + " to build"
+	}
+	if kinds := NewConstructionText(c.ByKind, length); kinds != "" {
+		fmt.Fprintf(w, "new construction by kind: %s (the bill's lines)\n", kinds)
 	}
 	fmt.Fprintf(w, "construction: new trench %s%s, added duct %s, %s where new pathway joins, %d along new construction%s, %d for added pull points (%s to build in all%s%s); %s used\n",
 		length(c.NewM), bored, length(c.AddedDuctM), Counted(s.JoinHandholes, "handhole", "handholes"), s.RunHandholes, taps, e.AddedPullPoints,

@@ -65,7 +65,7 @@ type Plan struct {
 	// whoever wrote the plan wants said with it. A sweep writes there what it changed in a
 	// scenario's plan beyond its overrides (a link entry carried to another hub), so that the
 	// scenario's outputs say it, planned by the sweep or alone.
-	Notes []string `yaml:"notes"`
+	Notes []string `yaml:"notes" scalar:"text"`
 
 	// MaxInputBytes caps each file the plan reads (campus, catalog, rules, prices), in
 	// bytes; 0 for the defaults (input.DefaultDataMiB MiB for GeoJSON, input.DefaultTextMiB
@@ -440,8 +440,9 @@ func (p *Plan) validate(errs *input.Problems) {
 		}
 	}
 	for i, n := range p.Notes {
-		if strings.TrimSpace(n) == "" {
-			bad(fmt.Sprintf("notes[%d]", i), input.ErrBadValue, "want a line of text, got an empty one")
+		// A note the walker refused (not text) is left empty: that problem says it, once.
+		if key := fmt.Sprintf("notes[%d]", i); strings.TrimSpace(n) == "" && !reported(key) {
+			bad(key, input.ErrBadValue, "want a line of text, got an empty one")
 		}
 	}
 	d := p.Defaults

@@ -688,7 +688,7 @@ const (
 
 // overRoutes draws what the routes would hide: the spans in a tunnel or on a pole line that
 // carry cable (a thin line of the pathway's colour along the route), the new construction
-// (trench and bore told apart by their dashes) and each span's cable count.
+// (trench, bore and each pathway type built new told apart by their dashes) and each span's cable count.
 func overRoutes(r *route.Result, p *projection, opt Options) (carriers, works []svgPath, counts []countLabel) {
 	net := r.Site.Net
 	opened := map[string]bool{}
@@ -734,8 +734,8 @@ func overRoutes(r *route.Result, p *projection, opt Options) (carriers, works []
 			}
 			if method == geo.MethodBore {
 				cls, what = "nw-bore", "new directional bore"
-			} else if method != geo.MethodTrench { // not dug (items.Dug): built as its type
-				what = "new " + method + " pathway, not dug"
+			} else if method != geo.MethodTrench { // not dug (items.Dug): built as its type, drawn as its own kind
+				cls, what = "nw-"+method, "new "+output.KindName(method)+", not dug"
 			}
 			if opened[s.ID] {
 				what += ", the proposed pathway this plan builds"

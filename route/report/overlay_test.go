@@ -86,3 +86,48 @@ func TestMapDrawsOverRoutes(t *testing.T) {
 		t.Error("starter: no handhole to add where the new trench joins the network")
 	}
 }
+
+// TestMapNewWorkByKind: on a campus whose plan builds a trench, a directional bore, a pole
+// line and a cable tray (testdata/newwork), each span of new construction is drawn in the
+// style of its kind (items.MethodOf: nw-trench, nw-bore, nw-aerial, nw-tray), each style has
+// a dash pattern of its own in the style sheet (nw-tunnel's too, which this plan does not
+// build), and the legend names each kind drawn and no other. The styles are this project's
+// own choice (common practice, no published source: a map's line styles follow no standard).
+func TestMapNewWorkByKind(t *testing.T) {
+	const path = "../../testdata/newwork/plan.yaml"
+	html := render(t, path, Options{})
+	svg := html[strings.Index(html, `<svg class="map"`):]
+	svg = svg[:strings.Index(svg, "</svg>")]
+	want := map[string]string{"NEW-TRENCH": "nw-trench", "NEW-BORE": "nw-bore", "NEW-POLES": "nw-aerial", "NEW-TRAY": "nw-tray"}
+	got := map[string]string{}
+	for _, g := range regexp.MustCompile(`<path d="[^"]*" class="(nw-[a-z]+)"><title>([^ ]+) `).FindAllStringSubmatch(svg, -1) {
+		got[g[2]] = g[1]
+	}
+	for span, cls := range want {
+		if got[span] != cls {
+			t.Errorf("span %s drawn as %q, want %s (works %v)", span, got[span], cls, got)
+		}
+	}
+	if len(got) != len(want) {
+		t.Errorf("works %v, want %v", got, want)
+	}
+	dashes := map[string]string{}
+	for _, cls := range []string{"nw-trench", "nw-bore", "nw-aerial", "nw-tray", "nw-tunnel"} {
+		m := regexp.MustCompile(`\.` + cls + ` \{[^}]*stroke-dasharray: ([^;]+);`).FindStringSubmatch(styleCSS)
+		if m == nil {
+			t.Errorf("style sheet: no dash pattern for %s", cls)
+			continue
+		}
+		if other, ok := dashes[m[1]]; ok {
+			t.Errorf("%s and %s share the dash pattern %q", cls, other, m[1])
+		}
+		dashes[m[1]] = cls
+	}
+	for cls, label := range map[string]string{"nw-trench": "new trench the plan builds", "nw-bore": "new directional bore the plan builds",
+		"nw-aerial": "new pole line the plan builds", "nw-tray": "new cable tray the plan builds", "nw-tunnel": "new utility tunnel the plan builds"} {
+		drawn, listed := strings.Contains(svg, `class="`+cls+`"`), strings.Contains(html, `class="`+cls+`"/></g></svg> `+label)
+		if drawn != listed || drawn != (cls != "nw-tunnel") {
+			t.Errorf("%s drawn %v, legend %q %v; want both, but for the tunnel this plan does not build", cls, drawn, label, listed)
+		}
+	}
+}

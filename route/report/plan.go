@@ -207,6 +207,9 @@ type planView struct {
 	// NewWorkParts is NewTrench's bored and building laterals' parts (output.NewWorkParts),
 	// "" for none.
 	NewWorkParts string
+	// NewConstruction is the new construction by kind (output.NewConstructionText of
+	// estimate.Construction.ByKind), "none" when the plan builds none, "" without an estimate.
+	NewConstruction string
 	// CountOfPulls is what the count of pulls a duct lays beyond the fill alone
 	// (output.CountText of estimate.Construction.ForCount); "" without an estimate.
 	CountOfPulls string
@@ -462,6 +465,10 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 	v.NewTrench = opt.lengthU(tot.NewM)
 	if r.Estimate != nil {
 		v.NewWorkParts = output.NewWorkParts(r.Estimate.Construction, opt.lengthU)
+		v.NewConstruction = output.NewConstructionText(r.Estimate.Construction.ByKind, opt.lengthU)
+		if v.NewConstruction == "" {
+			v.NewConstruction = "none"
+		}
 		v.CountOfPulls = strings.TrimPrefix(output.CountText(r.Estimate.Construction.ForCount, s.CablesPerDuct, opt.lengthU,
 			func(c int64) string { return money(c) + " " + r.Currency }), "count of pulls: ")
 	}
@@ -1099,6 +1106,9 @@ func legendOf(r *route.Result, med map[string]mediumInfo, order []string, m mapV
 	lg.Over = present(over, []legendItem{
 		{Class: "nw-trench", Label: "new trench the plan builds (long dashes)"},
 		{Class: "nw-bore", Label: "new directional bore the plan builds (dots)"},
+		{Class: "nw-aerial", Label: "new pole line the plan builds (dash and dot)"},
+		{Class: "nw-tray", Label: "new cable tray the plan builds (short even dashes)"},
+		{Class: "nw-tunnel", Label: "new utility tunnel the plan builds (wide, dash and two dots)"},
 		{Class: "on-tunnel", Label: "route in a utility tunnel (thin brown line)"},
 		{Class: "on-aerial", Label: "route on a pole line, aerial (dark dots)"},
 	})

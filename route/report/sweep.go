@@ -10,6 +10,7 @@ import (
 	"strings"
 
 	"spanwright/route/escape"
+	"spanwright/route/estimate"
 	"spanwright/route/fileset"
 	"spanwright/route/output"
 	"spanwright/route/sweep"
@@ -142,7 +143,12 @@ func sweepViewOf(c *sweep.Comparison, opt SweepOptions) *sweepView {
 	v.Cols = append(v.Cols,
 		sweepCol{"status", false}, sweepCol{"total cost (" + cur + ")", true}, sweepCol{"budget", true},
 		sweepCol{"over budget", true}, sweepCol{"infeasible legs", true}, sweepCol{"worst margin (dB)", true},
-		sweepCol{"new trench (" + lu.Length + ")", true}, sweepCol{"diverse links", true}, sweepCol{"of them sharing a single point of failure", true}, sweepCol{"lacking diverse", true},
+		sweepCol{"new trench (" + lu.Length + ")", true})
+	// The new construction by kind (sweep.Row.NewConstruction), as compare.csv has it.
+	for _, k := range estimate.NewKinds {
+		v.Cols = append(v.Cols, sweepCol{"new construction: " + output.KindName(k) + " (" + lu.Length + ")", true})
+	}
+	v.Cols = append(v.Cols, sweepCol{"diverse links", true}, sweepCol{"of them sharing a single point of failure", true}, sweepCol{"lacking diverse", true},
 		sweepCol{"media (legs)", false}, sweepCol{"rank by cost", true}, sweepCol{"Pareto", false},
 		sweepCol{"warnings", true}, sweepCol{"error", false},
 		sweepCol{"search started from", false}, sweepCol{"handholes to build", true})
@@ -247,10 +253,12 @@ func sweepRowOf(j *sweep.Judged, keys []string, lu output.Units) sweepRow {
 	if planned && j.WorstMarginDB != nil {
 		margin = sweepCell{Text: dB(*j.WorstMarginDB), Sort: strconv.FormatFloat(*j.WorstMarginDB, 'f', 2, 64)}
 	}
-	trench := sweepCell{}
-	if planned {
-		s := strconv.FormatFloat(lu.Rounded(j.NewTrenchM, 1), 'f', 1, 64)
-		trench = sweepCell{Text: group(s), Sort: s}
+	length := func(m float64, ok bool) sweepCell {
+		if !ok {
+			return sweepCell{}
+		}
+		s := strconv.FormatFloat(lu.Rounded(m, 1), 'f', 1, 64)
+		return sweepCell{Text: group(s), Sort: s}
 	}
 	spof := sweepCell{} // blank in rows written before the figure was kept
 	if j.DiverseSinglePoint != nil {
@@ -258,8 +266,11 @@ func sweepRowOf(j *sweep.Judged, keys []string, lu output.Units) sweepRow {
 	}
 	pareto := text(sweep.ParetoText(&j.Row, j.Pareto))
 	row.Cells = append(row.Cells, text(j.Status), moneyc(j.TotalCents, planned), budget,
-		over, intc(j.InfeasibleLegs, planned), margin, trench,
-		intc(j.DiverseLinks, planned), spof, intc(j.DiverseMissing, planned), text(j.MediaMix),
+		over, intc(j.InfeasibleLegs, planned), margin, length(j.NewTrenchM, planned))
+	for _, k := range estimate.NewKinds {
+		row.Cells = append(row.Cells, length(j.NewConstruction(k)))
+	}
+	row.Cells = append(row.Cells, intc(j.DiverseLinks, planned), spof, intc(j.DiverseMissing, planned), text(j.MediaMix),
 		rankc(&j.Row, j.Rank), pareto, intc(j.Warnings, planned), text(j.Error))
 	hh, cautions := sweepCell{}, sweepCell{} // blank in rows written before they were kept
 	if j.HandholesToBuild != nil {

@@ -15,6 +15,7 @@ import (
 	"spanwright/media"
 	"spanwright/route"
 	"spanwright/route/escape"
+	"spanwright/route/estimate"
 	"spanwright/route/fileset"
 	"spanwright/route/output"
 	"spanwright/route/workbook"
@@ -261,119 +262,137 @@ func textCol(csvName, human string, get func(judged) string) column {
 
 func hasBudget(j judged) bool { return planned(j) && j.BudgetCents != nil }
 
-// fixedColumns are the comparison's columns after the override columns.
-var fixedColumns = slices.Concat([]column{
-	textCol("status", "status", func(j judged) string { return j.Status }),
-	textCol("currency", "currency", func(j judged) string { return j.Currency }),
-	moneyCol("total_cost", "total cost", func(r *Row) int64 { return r.TotalCents }, planned),
-	moneyCol("plan_budget", "budget", func(r *Row) int64 { return *r.BudgetCents }, hasBudget),
-	overBudgetColumn(),
-	intCol("infeasible_legs", "infeasible legs", func(r *Row) int { return r.InfeasibleLegs }),
-	{"worst_margin_db", "worst loss margin", "dB",
-		func(j judged) string {
-			if !planned(j) || j.WorstMarginDB == nil {
+// columnsIn are the comparison's columns after the override columns, with the lengths in
+// units (output.UnitsMetric or UnitsImperial), as the sweep wrote its scenarios' files
+// (rowsHeader.Units): compare.csv's new_trench_m is new_trench_ft under --units imperial.
+func columnsIn(units string) []column {
+	return slices.Concat([]column{
+		textCol("status", "status", func(j judged) string { return j.Status }),
+		textCol("currency", "currency", func(j judged) string { return j.Currency }),
+		moneyCol("total_cost", "total cost", func(r *Row) int64 { return r.TotalCents }, planned),
+		moneyCol("plan_budget", "budget", func(r *Row) int64 { return *r.BudgetCents }, hasBudget),
+		overBudgetColumn(),
+		intCol("infeasible_legs", "infeasible legs", func(r *Row) int { return r.InfeasibleLegs }),
+		{"worst_margin_db", "worst loss margin", "dB",
+			func(j judged) string {
+				if !planned(j) || j.WorstMarginDB == nil {
+					return ""
+				}
+				return strconv.FormatFloat(*j.WorstMarginDB, 'f', 2, 64)
+			},
+			func(j judged) workbook.Cell {
+				if !planned(j) || j.WorstMarginDB == nil {
+					return workbook.Blank()
+				}
+				return workbook.Number(*j.WorstMarginDB, 2)
+			}, nil},
+		lengthColumn("new_trench", "new trench", func(j judged) (float64, bool) { return j.NewTrenchM, planned(j) }, units),
+		intCol("diverse_links", "diverse links", func(r *Row) int { return r.DiverseLinks }),
+		optIntCol("diverse_single_point", "diverse links sharing a single point of failure", func(r *Row) *int { return r.DiverseSinglePoint }),
+		intCol("diverse_missing", "links lacking a diverse route", func(r *Row) int { return r.DiverseMissing }),
+		textCol("media_mix", "media (legs per medium)", func(j judged) string { return j.MediaMix }),
+		{"cost_rank", "rank by cost", "",
+			func(j judged) string { return RankText(j.Row, j.rank) },
+			func(j judged) workbook.Cell {
+				switch {
+				case j.rank == 0:
+					return workbook.Blank()
+				case j.RankedApart(): // text: the totals' formulas match the complete ranks only
+					return workbook.Text(RankText(j.Row, j.rank))
+				}
+				return workbook.Int(int64(j.rank))
+			}, nil},
+		{"pareto", "pareto optimal", "",
+			func(j judged) string { return ParetoText(j.Row, j.pareto) },
+			func(j judged) workbook.Cell {
+				switch {
+				case !j.Ranked():
+					return workbook.Blank()
+				case j.RankedApart():
+					return workbook.Text(ParetoText(j.Row, j.pareto))
+				}
+				return workbook.Bool(j.pareto)
+			}, nil},
+		intCol("warnings", "warnings", func(r *Row) int { return r.Warnings }),
+		textCol("error", "error", func(j judged) string { return oneLine(j.Error) }),
+		textCol("note", "note", func(j judged) string { return j.Note }),
+		// The optimizer's objective, proved lower bound and gap, last so that readers of the
+		// columns before them stay valid.
+		moneyCol("objective", "optimizer objective", func(r *Row) int64 { return r.ObjectiveCents }, planned),
+		moneyCol("lower_bound", "proved lower bound", func(r *Row) int64 { return *r.LowerBoundCents }, bounded),
+		// The gap in percent: compare.csv as summary.json has it (four decimals), the workbook
+		// and compare.md as the terminal and the report show it (output.PctText, two).
+		{"gap_pct", "gap to the bound", "%",
+			func(j judged) string {
+				if !bounded(j) || j.GapPct == nil {
+					return ""
+				}
+				return strconv.FormatFloat(*j.GapPct, 'f', 4, 64)
+			},
+			func(j judged) workbook.Cell {
+				if !bounded(j) || j.GapPct == nil {
+					return workbook.Blank()
+				}
+				return workbook.Number(*j.GapPct, 2)
+			},
+			func(j judged) string {
+				if !bounded(j) || j.GapPct == nil {
+					return ""
+				}
+				return output.PctText(*j.GapPct)
+			}},
+		// Where the search began, then what the total is made of, after the columns of earlier
+		// versions: the base scenario a warm-started row's search began from (blank: planned
+		// from scratch, as `spanwright plan` plans it alone), the handholes the plan adds (new
+		// digging, with or without new trench), and the bill's subtotals by category and its
+		// markups, as summary.json has them, which add up to total_cost.
+		textCol("started_from", "search started from", func(j judged) string {
+			if !planned(j) {
 				return ""
 			}
-			return strconv.FormatFloat(*j.WorstMarginDB, 'f', 2, 64)
-		},
-		func(j judged) workbook.Cell {
-			if !planned(j) || j.WorstMarginDB == nil {
-				return workbook.Blank()
-			}
-			return workbook.Number(*j.WorstMarginDB, 2)
-		}, nil},
-	trenchColumn, // replaced by the run's units (columnsIn)
-	intCol("diverse_links", "diverse links", func(r *Row) int { return r.DiverseLinks }),
-	optIntCol("diverse_single_point", "diverse links sharing a single point of failure", func(r *Row) *int { return r.DiverseSinglePoint }),
-	intCol("diverse_missing", "links lacking a diverse route", func(r *Row) int { return r.DiverseMissing }),
-	textCol("media_mix", "media (legs per medium)", func(j judged) string { return j.MediaMix }),
-	{"cost_rank", "rank by cost", "",
-		func(j judged) string { return RankText(j.Row, j.rank) },
-		func(j judged) workbook.Cell {
-			switch {
-			case j.rank == 0:
-				return workbook.Blank()
-			case j.RankedApart(): // text: the totals' formulas match the complete ranks only
-				return workbook.Text(RankText(j.Row, j.rank))
-			}
-			return workbook.Int(int64(j.rank))
-		}, nil},
-	{"pareto", "pareto optimal", "",
-		func(j judged) string { return ParetoText(j.Row, j.pareto) },
-		func(j judged) workbook.Cell {
-			switch {
-			case !j.Ranked():
-				return workbook.Blank()
-			case j.RankedApart():
-				return workbook.Text(ParetoText(j.Row, j.pareto))
-			}
-			return workbook.Bool(j.pareto)
-		}, nil},
-	intCol("warnings", "warnings", func(r *Row) int { return r.Warnings }),
-	textCol("error", "error", func(j judged) string { return oneLine(j.Error) }),
-	textCol("note", "note", func(j judged) string { return j.Note }),
-	// The optimizer's objective, proved lower bound and gap, last so that readers of the
-	// columns before them stay valid.
-	moneyCol("objective", "optimizer objective", func(r *Row) int64 { return r.ObjectiveCents }, planned),
-	moneyCol("lower_bound", "proved lower bound", func(r *Row) int64 { return *r.LowerBoundCents }, bounded),
-	// The gap in percent: compare.csv as summary.json has it (four decimals), the workbook
-	// and compare.md as the terminal and the report show it (output.PctText, two).
-	{"gap_pct", "gap to the bound", "%",
-		func(j judged) string {
-			if !bounded(j) || j.GapPct == nil {
-				return ""
-			}
-			return strconv.FormatFloat(*j.GapPct, 'f', 4, 64)
-		},
-		func(j judged) workbook.Cell {
-			if !bounded(j) || j.GapPct == nil {
-				return workbook.Blank()
-			}
-			return workbook.Number(*j.GapPct, 2)
-		},
-		func(j judged) string {
-			if !bounded(j) || j.GapPct == nil {
-				return ""
-			}
-			return output.PctText(*j.GapPct)
-		}},
-	// Where the search began, then what the total is made of, after the columns of earlier
-	// versions: the base scenario a warm-started row's search began from (blank: planned
-	// from scratch, as `spanwright plan` plans it alone), the handholes the plan adds (new
-	// digging, with or without new trench), and the bill's subtotals by category and its
-	// markups, as summary.json has them, which add up to total_cost.
-	textCol("started_from", "search started from", func(j judged) string {
-		if !planned(j) {
-			return ""
-		}
-		return j.StartedFrom
-	}),
-	optIntCol("handholes_to_build", "handholes to build", func(r *Row) *int { return r.HandholesToBuild }),
-}, costColumns(), []column{
-	// The safety cautions the scenario's work calls for, and that the figures are a planning
-	// aid, on every row: a comparison is read without the scenarios' reports (tester 12's
-	// finding 2).
-	textCol("safety", "safety", safetyText),
-	// Whether over_budget covers the feasible legs only, after the columns of earlier versions:
-	// yes for a row with a budget and infeasible legs, whose total prices those legs alone
-	// (Row.BudgetFeasibleOnly), no for another row with a budget, blank without one.
-	{"budget_feasible_legs_only", "budget checks the feasible legs only", "",
-		func(j judged) string {
-			if !hasBudget(j) {
-				return ""
-			}
-			if j.BudgetFeasibleOnly {
-				return "yes"
-			}
-			return "no"
-		},
-		func(j judged) workbook.Cell {
-			if !hasBudget(j) {
-				return workbook.Blank()
-			}
-			return workbook.Bool(j.BudgetFeasibleOnly)
-		}, nil},
-})
+			return j.StartedFrom
+		}),
+		optIntCol("handholes_to_build", "handholes to build", func(r *Row) *int { return r.HandholesToBuild }),
+	}, costColumns(), []column{
+		// The safety cautions the scenario's work calls for, and that the figures are a planning
+		// aid, on every row: a comparison is read without the scenarios' reports (tester 12's
+		// finding 2).
+		textCol("safety", "safety", safetyText),
+		// Whether over_budget covers the feasible legs only, after the columns of earlier versions:
+		// yes for a row with a budget and infeasible legs, whose total prices those legs alone
+		// (Row.BudgetFeasibleOnly), no for another row with a budget, blank without one.
+		{"budget_feasible_legs_only", "budget checks the feasible legs only", "",
+			func(j judged) string {
+				if !hasBudget(j) {
+					return ""
+				}
+				if j.BudgetFeasibleOnly {
+					return "yes"
+				}
+				return "no"
+			},
+			func(j judged) workbook.Cell {
+				if !hasBudget(j) {
+					return workbook.Blank()
+				}
+				return workbook.Bool(j.BudgetFeasibleOnly)
+			}, nil},
+	}, constructionColumns(units))
+}
+
+// constructionColumns are the new construction by kind (Row.NewConstruction), one column of
+// each kind of estimate.NewKinds in its order, after the columns of earlier versions:
+// new_construction_trench_m, …_bore_m, …_aerial_m (a pole line), …_tray_m, …_tunnel_m, in
+// feet under --units imperial; blank for a failed row and one of a rows file written before
+// they were kept.
+func constructionColumns(units string) []column {
+	var out []column
+	for _, k := range estimate.NewKinds {
+		out = append(out, lengthColumn("new_construction_"+k, "new construction: "+output.KindName(k),
+			func(j judged) (float64, bool) { return j.NewConstruction(k) }, units))
+	}
+	return out
+}
 
 // SubtotalCategories are the bill's categories the comparison gives a subtotal column of, in
 // order (compare.csv's cost_<category>, compare.html's too): media.Categories and the bid
@@ -461,40 +480,28 @@ func categoryCol(cat string) column {
 	return moneyCol("cost_"+strings.ReplaceAll(cat, " ", "_"), cat, func(r *Row) int64 { return r.CostByCategory[cat] }, billed)
 }
 
-// trenchColumn is the metres of new trench; columnsIn replaces it by its units' (trenchIn).
-var trenchColumn = trenchIn(output.UnitsMetric)
-
-// trenchIn is the new trench column in units (output.UnitsMetric or UnitsImperial): metres,
-// or feet under --units imperial, one decimal, converted from the row's metres (summary.json's
-// new_trench_m, to 0.1 m), so a figure in feet can be 0.1 ft off the scenario's own files.
-func trenchIn(units string) column {
+// lengthColumn is a column of lengths of a row in units (output.UnitsMetric or
+// UnitsImperial), named base and the unit in compare.csv (new_trench_m, new_trench_ft),
+// human in the others: get gives the row's metres (summary.json's, to 0.1 m), false for a
+// blank cell; metres, or feet under --units imperial, one decimal, converted from those
+// metres, so a figure in feet can be 0.1 ft off the scenario's own files.
+func lengthColumn(base, human string, get func(judged) (float64, bool), units string) column {
 	u := output.UnitsOf(output.WriteOptions{Units: units})
-	return column{"new_trench_" + u.Length, "new trench", u.Length,
+	return column{base + "_" + u.Length, human, u.Length,
 		func(j judged) string {
-			if !planned(j) {
+			m, ok := get(j)
+			if !ok {
 				return ""
 			}
-			return strconv.FormatFloat(u.Rounded(j.NewTrenchM, 1), 'f', 1, 64)
+			return strconv.FormatFloat(u.Rounded(m, 1), 'f', 1, 64)
 		},
 		func(j judged) workbook.Cell {
-			if !planned(j) {
+			m, ok := get(j)
+			if !ok {
 				return workbook.Blank()
 			}
-			return workbook.Number(u.Rounded(j.NewTrenchM, 1), 1)
+			return workbook.Number(u.Rounded(m, 1), 1)
 		}, nil}
-}
-
-// columnsIn is fixedColumns with the lengths in units (output.UnitsMetric or UnitsImperial),
-// as the sweep wrote its scenarios' files (rowsHeader.Units): compare.csv's new_trench_m is
-// new_trench_ft under --units imperial.
-func columnsIn(units string) []column {
-	out := slices.Clone(fixedColumns)
-	for i := range out {
-		if out[i].csv == trenchColumn.csv {
-			out[i] = trenchIn(units)
-		}
-	}
-	return out
 }
 
 // bounded reports whether the row is planned with a lower bound.
@@ -535,7 +542,11 @@ func currencyOf(rows []Row) string {
 // without a bound) and gap_pct (the gap to the bound in percent, four decimals; empty
 // without a bound), started_from, handholes_to_build, the bill's subtotals cost_<category>
 // and markups contingency, overhead and tax, safety, and budget_feasible_legs_only (yes when
-// over_budget covers the feasible legs only, no with a budget otherwise, empty without one).
+// over_budget covers the feasible legs only, no with a budget otherwise, empty without one),
+// then the new construction by kind, new_construction_trench_m, _bore_m, _aerial_m (a pole
+// line), _tray_m and _tunnel_m (one decimal, _ft under --units imperial; empty for a failed
+// row and one of a rows file written before they were kept; trench and bore add up to
+// new_trench_m).
 // compare.xlsx holds the same table, numbers as numbers, with a
 // second sheet of totals as formulas; compare.md the same as a Markdown table. Text from the
 // sweep (ids, case names, values, errors) is escaped for each file by package escape: no CSV

@@ -54,7 +54,11 @@ type Row struct {
 	Unserved      []string `json:"infeasible_leg_names,omitempty"`
 	WorstMarginDB *float64 `json:"worst_margin_db"` // smallest loss margin, dB; nil without fibre legs
 	NewTrenchM    float64  `json:"new_trench_m"`    // metres of new trench opened
-	DiverseLinks  int      `json:"diverse_links"`   // links with two disjoint feasible legs
+	// NewConstructionM is the new construction by kind in metres (output.Summary
+	// .NewConstructionM: trench, bore, aerial, tray, tunnel); nil (absent) for a failed
+	// scenario and in a rows file written before it was kept.
+	NewConstructionM map[string]float64 `json:"new_construction_m,omitempty"`
+	DiverseLinks     int                `json:"diverse_links"` // links with two disjoint feasible legs
 	// DiverseSinglePoint is, of DiverseLinks, those whose two routes still share a single
 	// point of failure (output.Summary.DiverseSinglePoint); nil (absent) in a rows file
 	// written before it was kept.
@@ -121,6 +125,7 @@ func (r *Row) fill(s output.Summary) {
 	r.Unserved = slices.Clone(s.InfeasibleNames)
 	r.WorstMarginDB = s.WorstMarginDB
 	r.NewTrenchM = s.NewTrenchM
+	r.NewConstructionM = maps.Clone(s.NewConstructionM)
 	r.DiverseLinks, r.DiverseMissing = s.DiverseLinks, s.DiverseShort
 	spof := s.DiverseSinglePoint
 	r.DiverseSinglePoint = &spof
@@ -219,6 +224,15 @@ func (r *Row) value(key string) string {
 		}
 	}
 	return ""
+}
+
+// NewConstruction is the row's metres of new construction of kind (estimate.NewKinds);
+// false for a failed row and one of a rows file written before the figures were kept.
+func (r *Row) NewConstruction(kind string) (float64, bool) {
+	if r.Status == StatusFailed || r.NewConstructionM == nil {
+		return 0, false
+	}
+	return r.NewConstructionM[kind], true
 }
 
 // RowsFormat is the first field of a rows file's header line. Format 2 (with

@@ -12,15 +12,20 @@ import (
 
 // TestCompareImperial: a sweep run with --units imperial writes its comparison's lengths in
 // feet, as its scenarios' files (1 ft = 0.3048 m exactly, NIST SP 811): compare.csv's
-// new_trench_ft, compare.md's "new trench (ft)"; metric sweeps keep new_trench_m.
+// new_trench_ft, compare.md's "new trench (ft)", and the new construction by kind
+// (new_construction_aerial_ft, "new construction: pole line (ft)"); metric sweeps keep
+// new_trench_m and new_construction_aerial_m.
 func TestCompareImperial(t *testing.T) {
 	t.Parallel()
-	rows := []Row{{Index: 0, ID: "a", Status: StatusOK, TotalCents: 100, NewTrenchM: 100}}
+	rows := []Row{{Index: 0, ID: "a", Status: StatusOK, TotalCents: 100, NewTrenchM: 100,
+		NewConstructionM: map[string]float64{"trench": 100, "bore": 0, "aerial": 30.5, "tray": 0, "tunnel": 0}}}
 	for _, c := range []struct {
 		units, head, cell, md string
 	}{
 		{"", "new_trench_m", "100.0", "new trench (m)"},
 		{output.UnitsImperial, "new_trench_ft", "328.1", "new trench (ft)"},
+		{"", "new_construction_aerial_m", "30.5", "new construction: pole line (m)"},
+		{output.UnitsImperial, "new_construction_aerial_ft", "100.1", "new construction: pole line (ft)"}, // 30.5 / 0.3048 = 100.066
 	} {
 		files, err := Compare(rows, nil, c.units)
 		if err != nil {

@@ -70,7 +70,8 @@ func TestJudgeRanksUnservedApart(t *testing.T) {
 			// added after them.
 			head, _, _ := strings.Cut(text, "\n")
 			if head != "index,id,case,status,currency,total_cost,plan_budget,over_budget,infeasible_legs,worst_margin_db,new_trench_m,diverse_links,diverse_single_point,diverse_missing,media_mix,cost_rank,pareto,warnings,error,note,objective,lower_bound,gap_pct"+
-				",started_from,handholes_to_build,cost_material,cost_labour,cost_construction,cost_optics,cost_bid_items,contingency,overhead,tax,safety,budget_feasible_legs_only" {
+				",started_from,handholes_to_build,cost_material,cost_labour,cost_construction,cost_optics,cost_bid_items,contingency,overhead,tax,safety,budget_feasible_legs_only"+
+				",new_construction_trench_m,new_construction_bore_m,new_construction_aerial_m,new_construction_tray_m,new_construction_tunnel_m" {
 				t.Errorf("compare.csv header changed: %s", head)
 			}
 		case CompareMD:
