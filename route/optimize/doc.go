@@ -30,6 +30,11 @@
 // those edges (its legs share no edge), and with one such edge that edge is the single point
 // of failure reported.
 //
+// Nodes with one Problem.Sites number are one place (a junction drawn as one node per run of
+// duct through it): a diverse pair whose legs pass one place is taken only when the searches
+// find no pair that does not, whatever it costs (a place shared is a single point of failure,
+// as a node shared would be), and the plan's cost compares after the number of such pairs.
+//
 // Solve decides the medium and the route together, keeps every demand within its medium's
 // reach, shares new trench between demands (a fixed-charge network design problem, solved by
 // local search), finds diverse pairs for demands that need them and respects duct fill.

@@ -7,7 +7,7 @@ import (
 )
 
 // Fingerprint is the SHA-256 of everything Solve's answer depends on: the problem's nodes,
-// edges, demands and their options, AllowNew, NoTransit, Charges, and the settings. Solve is deterministic, so
+// edges, demands and their options, AllowNew, NoTransit, Charges, Sites, and the settings. Solve is deterministic, so
 // two calls with the same fingerprint return the same solution; callers that plan many
 // variants of one campus (a sweep) use it to solve each distinct problem once. ok is false
 // when the problem has a custom Fits function, which cannot be fingerprinted.
@@ -99,6 +99,14 @@ func Fingerprint(p *Problem, opt Settings) (sum [sha256.Size]byte, ok bool) {
 			for _, e := range c.Edges {
 				f.int(int64(e))
 			}
+		}
+	}
+	// Places drawn as several nodes, only when present (as above).
+	if len(p.Sites) > 0 {
+		f.str("sites")
+		f.int(int64(len(p.Sites)))
+		for _, x := range p.Sites {
+			f.int(int64(x))
 		}
 	}
 	return sha256.Sum256(f.b), true

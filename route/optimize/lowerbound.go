@@ -658,7 +658,7 @@ func (sv *solver) gapClosed() bool {
 		return false
 	}
 	k := sv.st.key()
-	if k.overfull != 0 || k.unrouted != 0 || k.unmet != 0 {
+	if k.overfull != 0 || k.unrouted != 0 || k.unmet != 0 || k.atSite != 0 {
 		return false
 	}
 	b := sv.planBound()

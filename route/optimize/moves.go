@@ -87,10 +87,11 @@ func (sv *solver) rebest(d int) (old, nb choice) {
 // stayCost is the objective of choice c for demand d against the current state (which must
 // not contain d), as best weighs a choice; math.MaxInt64 when c may not stay (no route, an
 // edge forbidden or without room for its cable), when it is a diverse demand's single route
-// (best must look for a pair first, and any pair weighs more than one route), or under the
-// length objective, which weighs routes in metres.
+// (best must look for a pair first, and any pair weighs more than one route) or a pair whose
+// legs pass one place (Problem.Sites: any pair that does not wins, whatever it weighs), or
+// under the length objective, which weighs routes in metres.
 func (sv *solver) stayCost(d int, c choice) int64 {
-	if c.opt < 0 || sv.length || (sv.p.Demands[d].Diverse && len(c.legs) < 2) {
+	if c.opt < 0 || sv.length || (sv.p.Demands[d].Diverse && len(c.legs) < 2) || sv.sharedSite(c.legs) != 0 {
 		return math.MaxInt64
 	}
 	if cost, barred := sv.weigh(d, c); barred == 0 {
@@ -278,7 +279,7 @@ func (sv *solver) closeSet(id int32, edges, users []int32, save int64) bool {
 		sv.add(int(d), nb)
 		done = append(done, d)
 		if k := sv.key(); k.overfull == before.overfull && k.unrouted == before.unrouted &&
-			k.unmet == before.unmet && sv.inUse(edges) && k.total-before.total > save+sv.st.paidCents-paid0 {
+			k.unmet == before.unmet && k.atSite == before.atSite && sv.inUse(edges) && k.total-before.total > save+sv.st.paidCents-paid0 {
 			break
 		}
 	}
@@ -701,8 +702,8 @@ func (sv *solver) estimate(d int) int64 {
 	cur, barred := sv.weigh(d, c)
 	cur += int64(barred) * (math.MaxInt64 / 8) // forbidden by the move: leaving it is a must
 	below := cur                               // a route that saves nothing is not wanted
-	if dm.Diverse && len(c.legs) < 2 {
-		below = math.MaxInt64 // bestBelow with a limit looks for pairs only
+	if dm.Diverse && (len(c.legs) < 2 || sv.sharedSite(c.legs) != 0) {
+		below = math.MaxInt64 // bestBelow with a limit looks for pairs only, or cheaper ones
 	}
 	nb := sv.bestBelow(d, below)
 	defer sv.endSelf() // end the in-place view

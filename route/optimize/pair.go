@@ -52,6 +52,7 @@ func (sv *solver) pair(d, o int, mix bool, below int64) (legs [2][]Hop, weight i
 	}
 	w := sv.weightFor(d, o)
 	hc := treeH(sv.bound(t, prof).t)
+	legsAtSite := false // legs share a place (Problem.Sites): any pair that does not wins
 	try := func(wt func(e int32) (int64, bool), h heuristic[int64], below int64) (ratio float64) {
 		cand, found := sv.groupPair(s, t, wt, h, below)
 		if !found {
@@ -62,16 +63,17 @@ func (sv *solver) pair(d, o int, mix bool, below int64) (legs [2][]Hop, weight i
 		if l0+l1 > 0 {
 			ratio = float64(c0+c1) / float64(l0+l1)
 		}
+		atSite := sv.sharedSite(cand[:]) != 0
 		if l0 > limit || l1 > limit {
 			tooLong = true
 			sv.plainW = c0 + c1
-		} else if c0+c1 < weight {
-			legs, weight, ok = cand, c0+c1, true
+		} else if !ok || (legsAtSite && !atSite) || (legsAtSite == atSite && c0+c1 < weight) {
+			legs, weight, ok, legsAtSite = cand, c0+c1, true, atSite
 		}
 		return ratio
 	}
 	ratio := try(w, hc, below)
-	if ok || !mix || limit >= unlimitedMM {
+	if (ok && !legsAtSite) || !mix || limit >= unlimitedMM {
 		if tooLong && !ok {
 			weight = sv.plainW // the cheapest pair ignoring reach: a bound for the reach scan
 		}
@@ -88,7 +90,7 @@ func (sv *solver) pair(d, o int, mix bool, below int64) (legs [2][]Hop, weight i
 			c, okw := w(e)
 			return c + int64(math.Round(lambda*float64(sv.net.lenMM[e]))), okw
 		}, hc, math.MaxInt64)
-		if ok {
+		if ok && !legsAtSite {
 			return legs, weight, ok, false
 		}
 	}
@@ -184,28 +186,48 @@ func (sv *solver) groupPair(s, t int, wt func(e int32) (int64, bool), h heuristi
 	if !res.ok || res.weight >= below {
 		return [2][]Hop{}, false
 	}
-	if sv.sharedGroup(res.legs) == 0 {
+	if sv.sharedGroup(res.legs) == 0 && sv.sharedSite(res.legs[:]) == 0 {
 		return res.legs, true
 	}
-	var best [2][]Hop
-	bestW := int64(math.MaxInt64)
+	// The cheapest pair that shares nothing, and the cheapest that shares only a place
+	// (Problem.Sites), kept in case no other is found.
+	var best, atSite [2][]Hop
+	bestW, atSiteW := int64(math.MaxInt64), int64(math.MaxInt64)
 	consider := func(legs [2][]Hop) {
+		if sv.sharedGroup(legs) != 0 {
+			return
+		}
 		c0, _ := pathEval(sv.net, legs[0], wt)
 		c1, _ := pathEval(sv.net, legs[1], wt)
-		if c0+c1 < bestW {
+		switch {
+		case sv.sharedSite(legs[:]) != 0:
+			if c0+c1 < atSiteW {
+				atSite, atSiteW = legs, c0+c1
+			}
+		case c0+c1 < bestW:
 			best, bestW = legs, c0+c1
 		}
 	}
-	// Two-step candidates.
+	consider(res.legs)
+	// Two-step candidates: each leg of the pair and the cheapest single path, with the
+	// cheapest path avoiding it, if the two may weigh less than below.
 	for _, leg := range [][]Hop{res.legs[0], res.legs[1], sv.single(s, t, blocked, h)} {
 		if leg == nil {
 			continue
 		}
-		if q := sv.avoiding(s, t, leg, blocked, h); q != nil {
+		most := int64(math.MaxInt64)
+		if below < math.MaxInt64 {
+			c, _ := pathEval(sv.net, leg, wt)
+			if most = below - c - 1; most < 0 {
+				continue
+			}
+		}
+		if q := sv.avoiding(s, t, leg, blocked, h, most); q != nil {
 			consider([2][]Hop{leg, q})
 		}
 	}
-	// Branching on shared groups.
+	// Branching on shared groups, then on shared places: the edges of the group (or the edges
+	// at the place's nodes) are kept for one leg's use only.
 	type node struct {
 		blocked []int32
 		legs    [2][]Hop
@@ -214,14 +236,17 @@ func (sv *solver) groupPair(s, t int, wt func(e int32) (int64, bool), h heuristi
 	for tries := 1; len(queue) > 0 && tries < maxPairTries && !sv.stopped(); {
 		n := queue[0]
 		queue = queue[1:]
-		g := sv.sharedGroup(n.legs)
+		shared := sv.groups[sv.sharedGroup(n.legs)]
+		if len(shared) == 0 {
+			shared = sv.siteEdges[sv.sharedSite(n.legs[:])]
+		}
 		for k := 0; k < 2 && tries < maxPairTries; k++ {
 			keep := map[int32]bool{}
 			for _, h := range n.legs[k] {
 				keep[int32(h.Edge)] = true
 			}
 			bl := slices.Clone(n.blocked)
-			for _, e := range sv.groups[g] {
+			for _, e := range shared {
 				if !keep[e] {
 					bl = append(bl, e)
 				}
@@ -232,15 +257,79 @@ func (sv *solver) groupPair(s, t int, wt func(e int32) (int64, bool), h heuristi
 			if !r.ok {
 				continue
 			}
-			if sv.sharedGroup(r.legs) == 0 {
-				consider(r.legs)
+			consider(r.legs)
+			if sv.sharedGroup(r.legs) == 0 && sv.sharedSite(r.legs[:]) == 0 {
 				continue
 			}
 			queue = append(queue, node{blocked: bl, legs: r.legs})
 		}
 	}
 	sv.block(nil)
-	return best, bestW < math.MaxInt64
+	if bestW == math.MaxInt64 {
+		return atSite, atSiteW < math.MaxInt64
+	}
+	return best, true
+}
+
+// initSites reads Problem.Sites into siteOf and siteEdges; a problem with no place drawn as
+// several nodes leaves them nil.
+func (sv *solver) initSites() {
+	n := 0
+	for _, x := range sv.p.Sites {
+		n = max(n, x)
+	}
+	if n == 0 {
+		return
+	}
+	sv.siteOf = make([]int32, sv.p.Nodes)
+	for v, x := range sv.p.Sites {
+		sv.siteOf[v] = int32(x)
+	}
+	sv.siteEdges = make([][]int32, n+1)
+	sv.siteMark = make([]uint32, n+1)
+	for i, e := range sv.p.Edges {
+		a, b := sv.siteOf[e.From], sv.siteOf[e.To]
+		if a > 0 {
+			sv.siteEdges[a] = append(sv.siteEdges[a], int32(i))
+		}
+		if b > 0 && b != a {
+			sv.siteEdges[b] = append(sv.siteEdges[b], int32(i))
+		}
+	}
+}
+
+// sharedSite returns the smallest place (Problem.Sites) that the interior nodes of both legs
+// pass, or 0: two legs that pass one place share it as they would share a node.
+func (sv *solver) sharedSite(legs [][]Hop) int {
+	if sv.siteOf == nil || len(legs) < 2 || len(legs[0]) == 0 || len(legs[1]) == 0 {
+		return 0
+	}
+	sv.siteStamp++
+	if sv.siteStamp == 0 {
+		clear(sv.siteMark)
+		sv.siteStamp = 1
+	}
+	// A leg's interior nodes are the ends of its hops but the last.
+	for _, h := range legs[0][:len(legs[0])-1] {
+		if x := sv.siteOf[sv.hopEnd(h)]; x > 0 {
+			sv.siteMark[x] = sv.siteStamp
+		}
+	}
+	shared := int32(0)
+	for _, h := range legs[1][:len(legs[1])-1] {
+		if x := sv.siteOf[sv.hopEnd(h)]; x > 0 && sv.siteMark[x] == sv.siteStamp && (shared == 0 || x < shared) {
+			shared = x
+		}
+	}
+	return int(shared)
+}
+
+// hopEnd is the node hop h arrives at.
+func (sv *solver) hopEnd(h Hop) int {
+	if h.Forward {
+		return sv.p.Edges[h.Edge].To
+	}
+	return sv.p.Edges[h.Edge].From
 }
 
 // single returns the cheapest path from s to t under w, or nil.
@@ -251,28 +340,47 @@ func (sv *solver) single(s, t int, w func(e int32) (int64, bool), h heuristic[in
 	return sv.srch.pathTo(t)
 }
 
-// avoiding returns the cheapest path from s to t under w that shares no edge, interior node
-// or group with leg, or nil.
-func (sv *solver) avoiding(s, t int, leg []Hop, w func(e int32) (int64, bool), h heuristic[int64]) []Hop {
-	avoidE := map[int32]bool{}
-	avoidG := map[int]bool{}
-	avoidN := map[int]bool{}
-	for _, h := range leg {
-		avoidE[int32(h.Edge)] = true
-		if g := sv.p.Edges[h.Edge].Group; g > 0 {
-			avoidG[g] = true
+// avoiding returns the cheapest path from s to t under w that shares no edge, interior node,
+// group or place (Problem.Sites) with leg, or nil; none weighing more than most is looked for.
+func (sv *solver) avoiding(s, t int, leg []Hop, w func(e int32) (int64, bool), h heuristic[int64], most int64) []Hop {
+	// The edges to avoid, stamped: the leg's, those of its groups, those at its interior
+	// nodes and at the places they are part of.
+	if sv.avE == nil {
+		sv.avE = make([]uint32, len(sv.p.Edges))
+	}
+	sv.avSt++
+	if sv.avSt == 0 {
+		clear(sv.avE)
+		sv.avSt = 1
+	}
+	mark := func(es []int32) {
+		for _, e := range es {
+			sv.avE[e] = sv.avSt
 		}
 	}
-	for _, v := range (Leg{Hops: leg}).Nodes(sv.p.Edges) {
-		if v != s && v != t {
-			avoidN[v] = true
+	for _, hp := range leg {
+		sv.avE[hp.Edge] = sv.avSt
+		if g := sv.p.Edges[hp.Edge].Group; g > 0 {
+			mark(sv.groups[g])
 		}
 	}
-	return sv.single(s, t, func(e int32) (int64, bool) {
-		ed := &sv.p.Edges[e]
-		if avoidE[e] || (ed.Group > 0 && avoidG[ed.Group]) || avoidN[ed.From] || avoidN[ed.To] {
+	n := sv.net
+	for _, hp := range leg[:max(len(leg)-1, 0)] {
+		v := sv.hopEnd(hp)
+		for _, a := range n.adj[n.start[v]:n.start[v+1]] {
+			sv.avE[a.edge] = sv.avSt
+		}
+		if sv.siteOf != nil && sv.siteOf[v] > 0 {
+			mark(sv.siteEdges[sv.siteOf[v]])
+		}
+	}
+	if !sv.srch.runAtMost(s, t, func(e int32) (int64, bool) {
+		if sv.avE[e] == sv.avSt {
 			return 0, false
 		}
 		return w(e)
-	}, h)
+	}, h, most < math.MaxInt64, most) {
+		return nil
+	}
+	return sv.srch.pathTo(t)
 }

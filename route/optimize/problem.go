@@ -226,6 +226,15 @@ type Problem struct {
 	// entrance: marking it stops routes running in at one entrance and out at another.
 	NoTransit []bool
 
+	// Sites marks nodes that are one place drawn as several nodes (a junction with no
+	// structure split into one node per run of duct through it, where routes go straight on or
+	// turn by a turn edge): nodes with the same Sites value > 0 are that place. Two legs of a
+	// diverse demand that pass one place share it as they would share a node (a dig there
+	// cuts both): the searches prefer, at any cost, a pair that passes no place twice, and
+	// keep one that does only when they find no other. Nil, or one entry per node; 0 is no
+	// such place.
+	Sites []int
+
 	// Charges are prices paid once for a set of edges; see Charge.
 	Charges []Charge
 }
@@ -410,6 +419,14 @@ func validate(p *Problem, s Settings) error {
 	}
 	if len(p.NoTransit) != 0 && len(p.NoTransit) != p.Nodes {
 		bad("no-transit marks: want none or one per node (%d), got %d", p.Nodes, len(p.NoTransit))
+	}
+	if len(p.Sites) != 0 && len(p.Sites) != p.Nodes {
+		bad("sites: want none or one per node (%d), got %d", p.Nodes, len(p.Sites))
+	}
+	for v, x := range p.Sites {
+		if x < 0 {
+			bad("node %d: site: want >= 0, got %d", v, x)
+		}
 	}
 	var seen []int // edge → 1 + the last charge that listed it
 	if len(p.Charges) > 0 {

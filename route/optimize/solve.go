@@ -117,7 +117,16 @@ type solver struct {
 	// trenchCent is edge → cents of the trench the first added duct needs (ductsCents).
 	trenchCent []int64
 	groups     map[int][]int32
-	proposed   []int32
+	// Places drawn as several nodes (Problem.Sites): each node's, nil when the problem has
+	// none; each place's edges (those with an end at one of its nodes); a stamp per place for
+	// sharedSite.
+	siteOf    []int32
+	siteEdges [][]int32
+	siteMark  []uint32
+	siteStamp uint32
+	avE       []uint32 // avoiding's stamp of the edges to avoid
+	avSt      uint32
+	proposed  []int32
 
 	costTrees   []*tree     // slot × profiles + profile, see slot
 	planTrees   []*planTree // slot × profiles + profile
@@ -301,6 +310,7 @@ func newSolver(p *Problem, opt Settings) *solver {
 		net.noTransit = p.NoTransit
 	}
 	sv.initCharges()
+	sv.initSites()
 	sv.keepTrees = min(8, 20000/max(p.Nodes, 1)) // a few MB of trees at most
 	sv.plainBounds = p.Nodes < planTreeNodes
 	for i := range p.Edges {
@@ -723,15 +733,20 @@ func (sv *solver) routeWithin(d, o int, cheapest []Hop, most int64) ([]Hop, int6
 	return pl, c, true
 }
 
-// cand orders option candidates: by the objective (marginal cents; for the length objective
-// the cents of the option on its shortest route), then metres, then option index.
+// cand orders option candidates: a diverse pair that passes no place twice (Problem.Sites)
+// first, then by the objective (marginal cents; for the length objective the cents of the
+// option on its shortest route), then metres, then option index.
 type cand struct {
-	obj   int64
-	lenMM int64
-	opt   int
+	atSite bool
+	obj    int64
+	lenMM  int64
+	opt    int
 }
 
 func (a cand) less(b cand) bool {
+	if a.atSite != b.atSite {
+		return b.atSite
+	}
 	if a.obj != b.obj {
 		return a.obj < b.obj
 	}
@@ -785,14 +800,19 @@ func (sv *solver) bestBelow(d int, below int64) choice {
 		}
 		return a.opt - b.opt
 	})
-	bestC := cand{obj: math.MaxInt64}
+	bestC := cand{atSite: true, obj: math.MaxInt64}
 	var bestCh choice
 	bestCh.opt = -1
 	var bestLegs [2][]Hop // the legs of bestCh, made a slice only for the winner
 	nLegs := 0
 	consider := func(o int, legs [2][]Hop, n int, w int64) {
 		vc, mm := sv.legsCost(d, o, legs[:n])
-		c := cand{obj: w + sv.optionCents(d, o, n), lenMM: mm, opt: o}
+		c := cand{atSite: n == 2 && sv.sharedSite(legs[:]) != 0, obj: w + sv.optionCents(d, o, n), lenMM: mm, opt: o}
+		if c.atSite && below < math.MaxInt64 {
+			// A caller with a limit has a pair that passes no place twice (stayCost): one that
+			// does is never wanted in its place.
+			return
+		}
 		if sv.length {
 			// The length objective routes by metres but chooses the cheapest medium.
 			c.obj = vc + sv.optionCents(d, o, n)
@@ -810,7 +830,7 @@ func (sv *solver) bestBelow(d int, below int64) choice {
 		return bestCh
 	}
 	pruned := func(x lbo) bool {
-		return !sv.length && (x.lb >= below || x.lb > bestC.obj || (x.lb == bestC.obj && x.opt > bestC.opt))
+		return !sv.length && (x.lb >= below || (!bestC.atSite && (x.lb > bestC.obj || (x.lb == bestC.obj && x.opt > bestC.opt))))
 	}
 	// pairBelow is the weight a pair of option o must stay under to be wanted.
 	pairBelow := func(o int) int64 {

@@ -41,6 +41,7 @@ type state struct {
 	overfull int
 	unrouted int
 	unmet    int
+	atSite   int // diverse demands whose pair passes one place twice (Problem.Sites)
 	// paidCents is the construction the plan pays, counted as it opens and closes: an edge's
 	// FixedCents, the trench of an edge's first added duct. Only differences are read
 	// (closeSet: what a move's reroutes built, net of what they gave up, so a link that leaves
@@ -50,8 +51,8 @@ type state struct {
 }
 
 type key struct {
-	overfull, unrouted, unmet int
-	total, totalMM            int64
+	overfull, unrouted, unmet, atSite int
+	total, totalMM                    int64
 }
 
 func (a key) less(b key) bool {
@@ -63,6 +64,9 @@ func (a key) less(b key) bool {
 	}
 	if a.unmet != b.unmet {
 		return a.unmet < b.unmet
+	}
+	if a.atSite != b.atSite {
+		return a.atSite < b.atSite
 	}
 	if a.total != b.total {
 		return a.total < b.total
@@ -117,7 +121,7 @@ func newState(sv *solver) *state {
 		st.ch[d], st.sig[d] = choice{opt: -1}, unrouted
 		st.planH += mix(uint64(d), unrouted)
 	}
-	st.total, st.totalMM, st.overfull, st.unmet, st.unrouted = 0, 0, 0, 0, len(st.ch)
+	st.total, st.totalMM, st.overfull, st.unmet, st.atSite, st.unrouted = 0, 0, 0, 0, 0, len(st.ch)
 	return st
 }
 
@@ -128,7 +132,9 @@ func (sv *solver) dropState(st *state) {
 	}
 }
 
-func (st *state) key() key { return key{st.overfull, st.unrouted, st.unmet, st.total, st.totalMM} }
+func (st *state) key() key {
+	return key{st.overfull, st.unrouted, st.unmet, st.atSite, st.total, st.totalMM}
+}
 
 func (sv *solver) od(d, o int) float64 { return sv.p.Demands[d].Options[o].CableODMM }
 
@@ -284,6 +290,9 @@ func (sv *solver) add(d int, c choice) {
 	st.unrouted--
 	if sv.p.Demands[d].Diverse && len(c.legs) < 2 {
 		st.unmet++
+	}
+	if sv.sharedSite(c.legs) != 0 {
+		st.atSite++
 	}
 	st.total += c.varCost + sv.optionCents(d, c.opt, len(c.legs))
 	st.totalMM += c.lenMM
@@ -471,6 +480,9 @@ func (sv *solver) remove(d int) choice {
 	st.totalMM -= c.lenMM
 	if sv.p.Demands[d].Diverse && len(c.legs) < 2 {
 		st.unmet--
+	}
+	if sv.sharedSite(c.legs) != 0 {
+		st.atSite--
 	}
 	st.unrouted++
 	st.ch[d] = choice{opt: -1}

@@ -94,6 +94,19 @@ func canonicalize(p *optimize.Problem, at func(node int) [2]float64, name func(n
 			cp.NoTransit[k] = p.NoTransit[n]
 		}
 	}
+	if p.Sites != nil {
+		// Places numbered by their first node in canonical order.
+		cp.Sites = make([]int, len(p.Sites))
+		siteOf := map[int]int{0: 0}
+		for k, n := range c.node {
+			x, ok := siteOf[p.Sites[n]]
+			if !ok {
+				x = len(siteOf)
+				siteOf[p.Sites[n]] = x
+			}
+			cp.Sites[k] = x
+		}
+	}
 	if len(p.Charges) > 0 {
 		// Charges by their smallest canonical edge, then amount, then ID.
 		c.charge = make([]int, len(p.Charges))

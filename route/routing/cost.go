@@ -353,6 +353,7 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 	if slices.Contains(lay.noTransit, true) {
 		p.NoTransit = lay.noTransit
 	}
+	p.Sites = lay.site
 	d := m.design
 	// Handholes along runs of new construction (runsOf), by span: each is paid with its span,
 	// and a run is opened whole (site.NewRun).

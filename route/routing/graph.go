@@ -102,6 +102,13 @@ type layout struct {
 	end       map[string]int
 	endEntry  map[string]geo.Entry // a building ending at one entrance: that entrance
 	noTransit []bool
+	// site marks, by node, the junctions split for turns that no entrance is at (runs of duct
+	// crossing or meeting with no structure): the nodes of one junction share a number > 0,
+	// one place for a diverse link's legs (optimize.Problem.Sites), numbered in junction
+	// order (canonicalize renumbers them). Nil when there is none. An entrance's junction is
+	// left out: two legs by one entrance share it by the entrance's own rule (its edges'
+	// group, or the single point of failure a one-entrance building has).
+	site []int
 	// joinNode marks, by node, a run of proposed spans only at a junction split for turns where
 	// new pathway joins the network (site.JoinsNetwork): a route along one of them passes the
 	// handhole its joining adds, turning there or not (turnShare).
@@ -344,6 +351,7 @@ func newLayout(s *site.Site) *layout {
 		}
 	}
 	l.groups = group - firstGroup
+	l.markSites(entrances, copies, turnAt, jIndex)
 	l.splitAtOnlyEntrances(net, spansAt, jIndex, group)
 	l.numberClasses(net)
 	// The entrance edges whose counted lateral taps a duct, by junction: they need the
@@ -381,6 +389,29 @@ func newLayout(s *site.Site) *layout {
 		}
 	}
 	return l
+}
+
+// markSites sets site (see layout) from each junction's nodes.
+func (l *layout) markSites(entrances map[string][]geo.Entry, copies [][]int, turnAt map[int]bool, jIndex map[string]int) {
+	entrance := map[int]bool{}
+	for _, es := range entrances {
+		for _, e := range es {
+			entrance[jIndex[e.Junction]] = true
+		}
+	}
+	n := 0
+	for j, ns := range copies {
+		if !turnAt[j] || len(ns) < 2 || entrance[j] {
+			continue
+		}
+		if l.site == nil {
+			l.site = make([]int, l.nodes)
+		}
+		n++
+		for _, v := range ns {
+			l.site[v] = n
+		}
+	}
 }
 
 // splitAtOnlyEntrances sets spanGroup: each span's group (groupOf), but a pathway's own
