@@ -122,3 +122,50 @@ func TestRowKeepsNotPriced(t *testing.T) {
 		t.Errorf("an infeasible row is not also incomplete: %+v", r)
 	}
 }
+
+// TestOneRankedSetNotApart: when every ranked scenario leaves out the same unpriced item
+// there is one ranked set, and neither compare.md nor the report's plot says "ranked apart"
+// (tester 14 F10: six ok scenarios, all without pole_riser_each, ranked 1 to 6 together).
+func TestOneRankedSetNotApart(t *testing.T) {
+	t.Parallel()
+	risers := []string{"pole_riser_each"}
+	rows := []Row{
+		{Index: 0, ID: "a", Status: StatusOK, TotalCents: 200, WorstMarginDB: fp(1), NotPriced: risers},
+		{Index: 1, ID: "b", Status: StatusOK, TotalCents: 100, WorstMarginDB: fp(1), NotPriced: risers},
+		{Index: 2, ID: "c", Status: StatusFailed, Error: "boom"},
+	}
+	if n := RankSets(rows); n != 1 {
+		t.Fatalf("RankSets = %d, want 1", n)
+	}
+	if c := Judge(rows, nil); c.RankSets != 1 {
+		t.Errorf("Comparison.RankSets = %d, want 1", c.RankSets)
+	}
+	var rep Report
+	for _, r := range rows {
+		rep.count(r)
+	}
+	if rep.RankSets != 1 || rep.Incomplete != 2 {
+		t.Errorf("Report: RankSets %d Incomplete %d, want 1 and 2", rep.RankSets, rep.Incomplete)
+	}
+	files, err := Compare(rows, nil, "")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, f := range files {
+		if f.Name != CompareMD {
+			continue
+		}
+		text := string(f.Data)
+		if strings.Contains(text, "ranked apart") {
+			t.Errorf("compare.md says ranked apart with one ranked set:\n%s", text)
+		}
+		if want := "2 ok scenarios: every total leaves out the same items"; !strings.Contains(text, want) {
+			t.Errorf("compare.md lacks %q:\n%s", want, text)
+		}
+	}
+	// A complete scenario beside them makes two sets: now they are ranked apart.
+	rows = append(rows, Row{Index: 3, ID: "d", Status: StatusOK, TotalCents: 300, WorstMarginDB: fp(1)})
+	if n := RankSets(rows); n != 2 {
+		t.Errorf("RankSets with a complete row = %d, want 2", n)
+	}
+}

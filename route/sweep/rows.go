@@ -191,6 +191,19 @@ func (r *Row) group() string {
 	return legs + "\x01" + strings.Join(slices.Sorted(slices.Values(r.NotPriced)), "\x00")
 }
 
+// RankSets is the number of sets the comparison ranks apart from one another among rows: the
+// distinct groups (the same legs unserved, the same items not priced) of the ranked rows.
+// A row is said to be ranked apart only when there is more than one (tester 14 F10).
+func RankSets(rows []Row) int {
+	sets := map[string]bool{}
+	for i := range rows {
+		if rows[i].Ranked() {
+			sets[rows[i].group()] = true
+		}
+	}
+	return len(sets)
+}
+
 // Ranked reports whether the comparison ranks the row: an ok scenario, or an infeasible one
 // whose unserved legs are named (Unserved), ranked among those leaving the same legs out.
 func (r *Row) Ranked() bool {
