@@ -1,6 +1,7 @@
 package route
 
 import (
+	"maps"
 	"slices"
 	"strings"
 
@@ -23,6 +24,22 @@ type Caution struct {
 	// places are the handholes on a span or lateral Where names, each by its place in
 	// metres (estimate.MetresText), which WhereIn writes in another output's units.
 	places []estimate.PullPoint
+	// legs are the indices in Result.Legs of the legs whose own work calls for it (LegCautions).
+	legs []int
+}
+
+// LegCautions are the IDs of the cautions (Result.Cautions, in their order) that leg i's own
+// work calls for: the spans, junctions and laterals of its route that the caution is about,
+// its medium for the laser and copper cautions. links.csv gives them per row, short keys into
+// the safety sheet that lists each in full (tester 14 F16); none for an infeasible leg.
+func (r *Result) LegCautions(i int) []string {
+	var ids []string
+	for _, c := range r.Cautions {
+		if slices.Contains(c.legs, i) {
+			ids = append(ids, c.ID)
+		}
+	}
+	return ids
 }
 
 // WhereIn is Where with the distances of the handholes it names written by length (an
@@ -112,13 +129,20 @@ func cautionsOf(r *Result) []Caution {
 	aerialLegs, tunnelLegs, buriedLegs := 0, 0, 0
 	fibre := 0
 	var copperLegs, protectedAt seenList
+	facts := make([]legFacts, len(r.Legs)) // what each feasible leg's own work has, for Caution.legs
 	for i := range r.Legs {
 		l := &r.Legs[i]
 		if !l.Feasible {
 			continue
 		}
+		f := &facts[i]
+		f.feasible = true
+		f.spans, f.junctions = map[string]bool{}, map[string]bool{}
+		f.entrances = []string{l.EntranceTo, l.EntranceFrom}
+		f.buildings = []string{l.Link.From, l.Link.To}
 		onAerial, onTunnel, onBuried := false, false, false
 		for _, st := range l.Steps {
+			f.spans[st.SpanID] = true
 			sp, ok := net.Span(st.SpanID)
 			if !ok {
 				continue
@@ -138,17 +162,22 @@ func cautionsOf(r *Result) []Caution {
 			}
 		}
 		for _, j := range r.Site.JunctionsOf(l.Steps) {
+			f.junctions[j] = true
 			if jn, ok := net.Junction(j); ok && jn.Kind == geo.JunctionStructure && jn.StructureType == geo.StructureMaintenanceHole {
 				holes.add(j)
+				f.holes = true
 			}
 		}
 		aerialLegs += b2i(onAerial)
 		tunnelLegs += b2i(onTunnel)
 		buriedLegs += b2i(onBuried)
+		f.aerial, f.tunnel, f.buried = onAerial, onTunnel, onBuried
 		if m := r.Engine.Catalog().Medium(l.Medium); m != nil {
 			if m.Fibre() {
 				fibre++
+				f.fibre = true
 			} else if l.Outdoor {
+				f.copper = true
 				copperLegs.add(l.Label())
 				for _, en := range []string{l.EntranceTo, l.EntranceFrom} {
 					if en != "" {
@@ -167,10 +196,15 @@ func cautionsOf(r *Result) []Caution {
 	// poles are set in augered holes, a new tunnel is dug and then entered; a new tray is
 	// indoor work with none of these cautions.
 	var newPoles, newTunnel seenList
-	laterals := [2]int{} // trenched, bored
+	laterals := [2]int{}                 // trenched, bored
+	var dugLaterals []estimate.WorkPiece // the counted laterals trenched or bored, for Caution.legs
+	powerSpans := map[string]bool{}      // the spans of powerWork
 	if e := r.Estimate; e != nil {
 		for _, w := range e.Construction.Pieces {
 			isBore := w.Method == geo.MethodBore
+			if w.Span == "" && (isBore || w.Method == geo.MethodTrench) {
+				dugLaterals = append(dugLaterals, w)
+			}
 			switch {
 			case w.Method == geo.TypeAerial:
 				newPoles.add(w.Span)
@@ -188,6 +222,7 @@ func cautionsOf(r *Result) []Caution {
 				trench.add(w.Span)
 			}
 			if sp, ok := net.Span(w.Span); ok && sp.EMI == geo.EMIHigh {
+				powerSpans[w.Span] = true
 				if isBore {
 					powerWork.add("directional bore along span " + w.Span)
 				} else {
@@ -199,7 +234,8 @@ func cautionsOf(r *Result) []Caution {
 	pits := pitsOf(r)
 	var pitNames, onBanks []string
 	var bankPathways seenList
-	var places []estimate.PullPoint // of the pits on spans and laterals, for Caution.WhereIn
+	var places []estimate.PullPoint                           // of the pits on spans and laterals, for Caution.WhereIn
+	emiPits, bankPits := map[string]bool{}, map[string]bool{} // by name, for Caution.legs
 	for _, p := range pits {
 		pitNames = append(pitNames, p.name)
 		if p.at != nil {
@@ -218,10 +254,12 @@ func cautionsOf(r *Result) []Caution {
 				if len(onBanks) == 0 || onBanks[len(onBanks)-1] != p.name {
 					onBanks = append(onBanks, p.name)
 				}
+				bankPits[p.name] = true
 				bankPathways.add(sp.PathwayID)
 			}
 		}
 		if len(emi) > 0 {
+			emiPits[p.name] = true
 			powerWork.add("handhole " + p.name + " at " + strings.TrimPrefix(spansText(emi, 0), ": "))
 		}
 	}
@@ -369,7 +407,79 @@ func cautionsOf(r *Result) []Caution {
 			Text:   "Copper entering a building from outside needs a listed primary protector at the entrance and bonding; all-dielectric fibre between buildings avoids both.",
 			Source: "NFPA 70 Articles 800 and 805, 800.90 (seen)"})
 	}
+
+	// Which legs' own work calls for each caution: the same sets as above, asked per leg.
+	onAny := func(f *legFacts, sets ...[]string) bool {
+		for _, ids := range sets {
+			for _, id := range ids {
+				if f.spans[id] {
+					return true
+				}
+			}
+		}
+		return false
+	}
+	pitOn := func(f *legFacts, only map[string]bool) bool {
+		for _, p := range pits {
+			if only != nil && !only[p.name] {
+				continue
+			}
+			if p.at == nil && f.junctions[p.name] || p.at != nil && onAny(f, p.spans) {
+				return true
+			}
+		}
+		return false
+	}
+	lateralOf := func(f *legFacts, bored int) bool { // bored: 0 trench or bore, 1 bore only
+		for _, w := range dugLaterals {
+			if bored == 1 && w.Method != geo.MethodBore {
+				continue
+			}
+			if w.Entrance != "" && slices.Contains(f.entrances, w.Entrance) || w.Entrance == "" && slices.Contains(f.buildings, w.Building) {
+				return true
+			}
+		}
+		return false
+	}
+	calls := map[string]func(f *legFacts) bool{
+		CautionLocates: func(f *legFacts) bool {
+			return f.buried || onAny(f, trench.ids, bore.ids, newPoles.ids, newTunnel.ids) || lateralOf(f, 0) || pitOn(f, nil)
+		},
+		CautionTrench: func(f *legFacts) bool {
+			return onAny(f, trench.ids, bore.ids, newTunnel.ids) || lateralOf(f, 0) || pitOn(f, nil)
+		},
+		CautionBore:     func(f *legFacts) bool { return onAny(f, bore.ids) || lateralOf(f, 1) },
+		CautionPower:    func(f *legFacts) bool { return onAny(f, slices.Sorted(maps.Keys(powerSpans))) || pitOn(f, emiPits) },
+		CautionDuctBank: func(f *legFacts) bool { return pitOn(f, bankPits) },
+		CautionBuried:   func(f *legFacts) bool { return f.buried },
+		CautionAerial:   func(f *legFacts) bool { return f.aerial || onAny(f, newPoles.ids) },
+		CautionTunnel:   func(f *legFacts) bool { return f.tunnel || onAny(f, newTunnel.ids) },
+		CautionConfined: func(f *legFacts) bool { return f.holes || onAny(f, newTunnel.ids) },
+		CautionLaser:    func(f *legFacts) bool { return f.fibre },
+		CautionCopper:   func(f *legFacts) bool { return f.copper },
+	}
+	for k := range out {
+		call, ok := calls[out[k].ID]
+		if !ok {
+			panic("route: cautionsOf lists caution " + out[k].ID + " without the legs that call for it")
+		}
+		for i := range facts {
+			if facts[i].feasible && call(&facts[i]) {
+				out[k].legs = append(out[k].legs, i)
+			}
+		}
+	}
 	return out
+}
+
+// legFacts is what one feasible leg's own work has, as cautionsOf asks it of each caution:
+// the spans and junctions of its route, its entrances and buildings (its counted laterals),
+// and the kinds of pathway, structure and medium it uses.
+type legFacts struct {
+	feasible                                     bool
+	spans, junctions                             map[string]bool
+	entrances, buildings                         []string
+	aerial, tunnel, buried, holes, fibre, copper bool
 }
 
 // pit is a handhole the plan sets, dug where a crew works: its place as the structures table
