@@ -192,7 +192,7 @@ func printReport(w io.Writer, rep *sweep.Report, shard sweep.Shard) {
 		fmt.Fprintf(w, "  failed %s: %s\n", escape.Terminal(r.ID), escape.Terminal(strings.ReplaceAll(r.Error, "\n", "; ")))
 	}
 	switch {
-	case rep.Incomplete > 0 && rep.RankSets > 1:
+	case rep.Incomplete > 0 && rep.OKSets > 1:
 		fmt.Fprintf(w, "note: %s ok but ranked apart: the price book leaves items out of the total, so each is ranked only among scenarios leaving out the same items (rank and pareto say \"(without …)\"; see compare.md's notes)\n", scenarios(rep.Incomplete))
 	case rep.Incomplete > 0:
 		fmt.Fprintf(w, "note: %s ok, every total leaving out the same items the price book does not price: ranked together, on totals without them (rank and pareto say \"(without …)\"; see compare.md's notes)\n", scenarios(rep.Incomplete))

@@ -86,9 +86,10 @@ type sweepView struct {
 	Failed     int
 	Pareto     int
 	Incomplete int // ok scenarios whose totals leave out items not priced (sweep.Row.Incomplete), ranked among the same exclusion
-	// Apart is set when the comparison has more than one ranked set (sweep.RankSets): only
-	// then is a scenario ranked apart from others (tester 14 F10).
-	Apart bool
+	// Apart and ApartOK are set when the ranked rows, and the ok rows, make more than one
+	// ranked set (sweep.RankSets): only then is such a row ranked apart from others (tester 14
+	// F10).
+	Apart, ApartOK bool
 	// InfeasibleRanked counts the scenarios with infeasible legs ranked among those leaving
 	// the same legs unserved (sweep.Row.Apart).
 	InfeasibleRanked int
@@ -157,7 +158,7 @@ func sweepViewOf(c *sweep.Comparison, opt SweepOptions) *sweepView {
 		v.Cols = append(v.Cols, sweepCol{m.Name + " (" + cur + ")", true})
 	}
 	v.Cols = append(v.Cols, sweepCol{"safety cautions", false})
-	v.Apart = c.RankSets > 1
+	v.Apart, v.ApartOK = c.RankSets > 1, c.OKSets > 1
 	var cheapest []string // the cheapest ok scenarios, every one of a tie (sweep.TiedText)
 	var cheapestCents int64
 	for i := range c.Rows {
@@ -360,7 +361,10 @@ func scatterOf(c *sweep.Comparison) scatter {
 	// "ranked apart" only when there is another ranked set to be apart from (tester 14 F10).
 	rankWord, apartWord := "ranked ", ""
 	if c.RankSets > 1 {
-		rankWord, apartWord = "ranked apart: ", "ranked apart: "
+		rankWord = "ranked apart: "
+	}
+	if c.OKSets > 1 {
+		apartWord = "ranked apart: "
 	}
 	for _, i := range order {
 		j := c.Rows[i]

@@ -710,8 +710,8 @@ func textOrBlank(s string) workbook.Cell {
 
 // tally counts the scenarios by status: ok, with infeasible legs, failed (any other).
 // Of the ok ones, incomplete counts those whose totals leave out items not priced.
-// sets is the number of sets ranked apart from one another (RankSets).
-type tally struct{ ok, infeasible, failed, incomplete, sets int }
+// okSets is the number of sets the ok scenarios are ranked in (RankSets, okOnly).
+type tally struct{ ok, infeasible, failed, incomplete, okSets int }
 
 func tallyOf(js []judged) tally {
 	var n tally
@@ -719,7 +719,7 @@ func tallyOf(js []judged) tally {
 	for i, j := range js {
 		rows[i] = *j.Row
 	}
-	n.sets = RankSets(rows)
+	n.okSets = RankSets(rows, true)
 	for _, j := range js {
 		switch j.Status {
 		case StatusOK:
@@ -772,7 +772,7 @@ func compareMD(js []judged, keys []string, cur string, fixed []column) []byte {
 	}
 	unservedMD(&b, js, n)
 	switch {
-	case n.incomplete > 0 && n.sets > 1:
+	case n.incomplete > 0 && n.okSets > 1:
 		why := "its total leaves out items its price book does not price"
 		if n.incomplete > 1 {
 			why = "their totals leave out items their price books do not price"

@@ -192,12 +192,15 @@ func (r *Row) group() string {
 }
 
 // RankSets is the number of sets the comparison ranks apart from one another among rows: the
-// distinct groups (the same legs unserved, the same items not priced) of the ranked rows.
-// A row is said to be ranked apart only when there is more than one (tester 14 F10).
-func RankSets(rows []Row) int {
+// distinct groups (the same legs unserved, the same items not priced) of the ranked rows, or
+// with okOnly of the ok rows alone (the items not priced). An ok row is said to be ranked
+// apart only when the ok rows make more than one set, a row with infeasible legs only when
+// the ranked rows do (tester 14 F10: six ok rows all without the same item, beside rows with
+// infeasible legs, were said to be ranked apart).
+func RankSets(rows []Row, okOnly bool) int {
 	sets := map[string]bool{}
 	for i := range rows {
-		if rows[i].Ranked() {
+		if rows[i].Ranked() && (!okOnly || rows[i].Status == StatusOK) {
 			sets[rows[i].group()] = true
 		}
 	}
