@@ -139,7 +139,7 @@ func cautionsOf(r *Result) []Caution {
 		f.feasible = true
 		f.spans, f.junctions = map[string]bool{}, map[string]bool{}
 		f.entrances = []string{l.EntranceTo, l.EntranceFrom}
-		f.buildings = []string{l.Link.From, l.Link.To}
+		f.buildings = []string{l.Link.To, l.Link.From}
 		onAerial, onTunnel, onBuried := false, false, false
 		for _, st := range l.Steps {
 			f.spans[st.SpanID] = true
@@ -196,15 +196,11 @@ func cautionsOf(r *Result) []Caution {
 	// poles are set in augered holes, a new tunnel is dug and then entered; a new tray is
 	// indoor work with none of these cautions.
 	var newPoles, newTunnel seenList
-	laterals := [2]int{}                 // trenched, bored
-	var dugLaterals []estimate.WorkPiece // the counted laterals trenched or bored, for Caution.legs
-	powerSpans := map[string]bool{}      // the spans of powerWork
+	laterals := [2]int{}            // trenched, bored
+	powerSpans := map[string]bool{} // the spans of powerWork, for Caution.legs
 	if e := r.Estimate; e != nil {
 		for _, w := range e.Construction.Pieces {
 			isBore := w.Method == geo.MethodBore
-			if w.Span == "" && (isBore || w.Method == geo.MethodTrench) {
-				dugLaterals = append(dugLaterals, w)
-			}
 			switch {
 			case w.Method == geo.TypeAerial:
 				newPoles.add(w.Span)
@@ -408,55 +404,79 @@ func cautionsOf(r *Result) []Caution {
 			Source: "NFPA 70 Articles 800 and 805, 800.90 (seen)"})
 	}
 
-	// Which legs' own work calls for each caution: the same sets as above, asked per leg.
-	onAny := func(f *legFacts, sets ...[]string) bool {
-		for _, ids := range sets {
-			for _, id := range ids {
-				if f.spans[id] {
-					return true
-				}
+	// Which legs' own work calls for each caution: the same sets as above, asked of each leg
+	// through what its route has (its spans, junctions and entrances), by index.
+	const (
+		kTrench  = 1 << iota // new trench on the span
+		kBore                // bored
+		kPoles               // a new pole line
+		kTunnel              // a new tunnel
+		kPower               // new work on a span marked emi high
+		kPit                 // a handhole set here (at the junction, or along the span)
+		kPitEMI              // a handhole set beside a span marked emi high
+		kPitBank             // a handhole set into an existing duct bank
+	)
+	bySpan, byJunction := map[string]int{}, map[string]int{}
+	for _, set := range []struct {
+		ids  []string
+		kind int
+	}{{trench.ids, kTrench}, {bore.ids, kBore}, {newPoles.ids, kPoles}, {newTunnel.ids, kTunnel}, {slices.Sorted(maps.Keys(powerSpans)), kPower}} {
+		for _, id := range set.ids {
+			bySpan[id] |= set.kind
+		}
+	}
+	for _, p := range pits {
+		kind := kPit
+		if emiPits[p.name] {
+			kind |= kPitEMI
+		}
+		if bankPits[p.name] {
+			kind |= kPitBank
+		}
+		if p.at == nil {
+			byJunction[p.name] |= kind
+		}
+		for _, id := range p.spans {
+			if p.at != nil {
+				bySpan[id] |= kind
 			}
 		}
-		return false
 	}
-	pitOn := func(f *legFacts, only map[string]bool) bool {
-		for _, p := range pits {
-			if only != nil && !only[p.name] {
-				continue
+	has := make([]int, len(facts)) // per leg: the kinds above its own work has
+	for i := range facts {
+		f := &facts[i]
+		for id := range f.spans {
+			has[i] |= bySpan[id]
+		}
+		for id := range f.junctions {
+			has[i] |= byJunction[id]
+		}
+		for k, b := range f.buildings {
+			if r.Estimate == nil {
+				break
 			}
-			if p.at == nil && f.junctions[p.name] || p.at != nil && onAny(f, p.spans) {
-				return true
+			switch w, ok := r.Estimate.Construction.LateralPiece(b, f.entrances[k]); {
+			case ok && w.Method == geo.MethodBore:
+				has[i] |= kBore
+			case ok && w.Method == geo.MethodTrench:
+				has[i] |= kTrench
 			}
 		}
-		return false
 	}
-	lateralOf := func(f *legFacts, bored int) bool { // bored: 0 trench or bore, 1 bore only
-		for _, w := range dugLaterals {
-			if bored == 1 && w.Method != geo.MethodBore {
-				continue
-			}
-			if w.Entrance != "" && slices.Contains(f.entrances, w.Entrance) || w.Entrance == "" && slices.Contains(f.buildings, w.Building) {
-				return true
-			}
-		}
-		return false
-	}
-	calls := map[string]func(f *legFacts) bool{
-		CautionLocates: func(f *legFacts) bool {
-			return f.buried || onAny(f, trench.ids, bore.ids, newPoles.ids, newTunnel.ids) || lateralOf(f, 0) || pitOn(f, nil)
-		},
-		CautionTrench: func(f *legFacts) bool {
-			return onAny(f, trench.ids, bore.ids, newTunnel.ids) || lateralOf(f, 0) || pitOn(f, nil)
-		},
-		CautionBore:     func(f *legFacts) bool { return onAny(f, bore.ids) || lateralOf(f, 1) },
-		CautionPower:    func(f *legFacts) bool { return onAny(f, slices.Sorted(maps.Keys(powerSpans))) || pitOn(f, emiPits) },
-		CautionDuctBank: func(f *legFacts) bool { return pitOn(f, bankPits) },
-		CautionBuried:   func(f *legFacts) bool { return f.buried },
-		CautionAerial:   func(f *legFacts) bool { return f.aerial || onAny(f, newPoles.ids) },
-		CautionTunnel:   func(f *legFacts) bool { return f.tunnel || onAny(f, newTunnel.ids) },
-		CautionConfined: func(f *legFacts) bool { return f.holes || onAny(f, newTunnel.ids) },
-		CautionLaser:    func(f *legFacts) bool { return f.fibre },
-		CautionCopper:   func(f *legFacts) bool { return f.copper },
+	hasKind := func(i, kinds int) bool { return has[i]&kinds != 0 }
+	dug := kTrench | kBore | kPit
+	calls := map[string]func(i int) bool{
+		CautionLocates:  func(i int) bool { return facts[i].buried || hasKind(i, dug|kPoles|kTunnel) },
+		CautionTrench:   func(i int) bool { return hasKind(i, dug|kTunnel) },
+		CautionBore:     func(i int) bool { return hasKind(i, kBore) },
+		CautionPower:    func(i int) bool { return hasKind(i, kPower|kPitEMI) },
+		CautionDuctBank: func(i int) bool { return hasKind(i, kPitBank) },
+		CautionBuried:   func(i int) bool { return facts[i].buried },
+		CautionAerial:   func(i int) bool { return facts[i].aerial || hasKind(i, kPoles) },
+		CautionTunnel:   func(i int) bool { return facts[i].tunnel || hasKind(i, kTunnel) },
+		CautionConfined: func(i int) bool { return facts[i].holes || hasKind(i, kTunnel) },
+		CautionLaser:    func(i int) bool { return facts[i].fibre },
+		CautionCopper:   func(i int) bool { return facts[i].copper },
 	}
 	for k := range out {
 		call, ok := calls[out[k].ID]
@@ -464,7 +484,7 @@ func cautionsOf(r *Result) []Caution {
 			panic("route: cautionsOf lists caution " + out[k].ID + " without the legs that call for it")
 		}
 		for i := range facts {
-			if facts[i].feasible && call(&facts[i]) {
+			if facts[i].feasible && call(i) {
 				out[k].legs = append(out[k].legs, i)
 			}
 		}
@@ -476,8 +496,10 @@ func cautionsOf(r *Result) []Caution {
 // the spans and junctions of its route, its entrances and buildings (its counted laterals),
 // and the kinds of pathway, structure and medium it uses.
 type legFacts struct {
-	feasible                                     bool
-	spans, junctions                             map[string]bool
+	feasible         bool
+	spans, junctions map[string]bool
+	// buildings are the leg's two ends and entrances the entrance it uses at each (the
+	// counted laterals it takes), index for index.
 	entrances, buildings                         []string
 	aerial, tunnel, buried, holes, fibre, copper bool
 }
