@@ -888,7 +888,7 @@ func (c *Catalog) Table(w io.Writer, rateGbps float64) error {
 	}
 	shown := map[string]bool{} // the media the table lists
 	tw := tabwriter.NewWriter(w, 0, 8, 2, ' ', 0)
-	fmt.Fprintln(tw, "application\trate\twavelength nm\tuses\tmedium\trange m\tmax channel loss dB\tmin channel loss dB\tjacket")
+	fmt.Fprintln(tw, "application\tIEEE 802.3 clause\trate\twavelength nm\tuses\tmedium\trange m\tmax channel loss dB\tmin channel loss dB\tjacket")
 	for _, a := range c.Applications {
 		if rateGbps != 0 && a.RateGbps != rateGbps {
 			continue
@@ -908,8 +908,12 @@ func (c *Catalog) Table(w io.Writer, rateGbps float64) error {
 			if m.JacketColour != "" {
 				jacket = m.JacketColour
 			}
+			clause := "-"
+			if a.Clause != "" {
+				clause = a.Clause
+			}
 			shown[m.ID] = true
-			fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%.0f\t%s\t%s\t%s\n", a.Name, FormatRate(a.RateGbps), wl, uses, m.ID, r.RangeM, loss, least, jacket)
+			fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%s\t%.0f\t%s\t%s\t%s\n", a.Name, clause, FormatRate(a.RateGbps), wl, uses, m.ID, r.RangeM, loss, least, jacket)
 		}
 	}
 	if err := tw.Flush(); err != nil {

@@ -210,8 +210,11 @@ func TestChoose(t *testing.T) {
 			},
 		},
 		{
+			// Multimode does not carry 40G later with spliced pigtails: 40GBASE-SR4 on OM3 allows
+			// 1.9 dB (IEEE 802.3 Clause 86, from memory), and 0.04 km x 3.5 + 1.6 dB of design
+			// connections + the 0.5 dB multimode margin (the TIA-568.3-D gap, tester 14 F7) is 2.24 dB.
 			name: "future rate copper has no application", link: Link{RouteM: 40, RateGbps: 10, FutureRateGbps: 40, ConnectorPairs: 2, Strands: 1},
-			wantFeasible: true, wantMedium: "om3",
+			wantFeasible: true, wantMedium: "os2",
 			wantRejected: []string{"cat6a rejected by future-rate: it cannot carry the future rate of 40 Gb/s over 40 m: no application at 40G runs on cat6a"},
 		},
 		{
@@ -445,23 +448,28 @@ func TestMaxChannelM(t *testing.T) {
 		{"os2 100G outdoors 1 dB", tiaMaxima(1), nil, "os2", 100, 0, out, 31000},                                                          // computed: (18-1-1.5)/0.5 km
 		{"os2 splices count", tiaMaxima(0), nil, "os2", 100, 0, Link{ConnectorPairs: 2, Splices: 5, Outdoor: true}, 30000},                // computed: 100GBASE-ER4 (18-1.5-1.5)/0.5 km
 		// The default policy: design losses 0.5 dB per pair and 0.3 dB per splice, two pigtail
-		// splices (1.6 dB of connections), no multimode margin, 0.5 dB and one repair splice per
-		// 2 km of outside plant for single-mode (common practice, no published source).
-		{"policy: om3 10G", EngineOptions{}, nil, "om3", 10, 0, two, 1000.0 / 3.5},                                                  // IEEE 802.3 Clause 52, 2.6 dB (memory): (2.6-1.6)/3.5 km
-		{"policy: om4 10G", EngineOptions{}, nil, "om4", 10, 0, two, 1300.0 / 3.5},                                                  // IEEE 802.3 Clause 52, OM4 2.9 dB (seen): (2.9-1.6)/3.5 km, 371 m (README)
-		{"policy: om3 25G", EngineOptions{}, nil, "om3", 25, 0, two, 200.0 / 3.5},                                                   // IEEE 802.3 Clause 112, 1.8 dB (seen): (1.8-1.6)/3.5 km, 57 m (README)
-		{"policy: om4 25G", EngineOptions{}, nil, "om4", 25, 0, two, 300.0 / 3.5},                                                   // IEEE 802.3 Clause 112, 1.9 dB (seen): (1.9-1.6)/3.5 km, 86 m (README)
-		{"policy: om4 40G on OM3's pair", EngineOptions{}, nil, "om4", 40, 0, two, 300.0 / 3.5},                                     // IEEE 802.3 Clause 86, OM3 1.9 dB (memory): (1.9-1.6)/3.5 km
-		{"policy: om4 40G factory-terminated", EngineOptions{Termination: TerminationFactory}, nil, "om4", 40, 0, two, 500.0 / 3.5}, // IEEE 802.3 Clause 86: OM4's own 1.5 dB (seen) gives (1.5-1.0)/3.5 km, beyond OM3's 100 m
-		{"policy: os2 10G outdoors", EngineOptions{}, nil, "os2", 10, 0, out, 13600},                                                // computed: 10GBASE-ER with 7 repair splices (0.5 per km) at 13.6 km: 11-1.6-(0.5+7 x 0.3)-6.8 = 0 dB left
-		{"policy: os2 100G indoors", EngineOptions{}, nil, "os2", 100, 0, two, 31800},                                               // computed: 100GBASE-ER4 (18-1.6-0.5)/0.5 km, no repair splices inside
-		// The catalog's multimode margin of 0 with IEEE's own connection allowance (two pairs at
-		// 0.75 dB, no splices: 1.5 dB) gives IEEE's whole range; a plan's floor comes on top of
+		// splices (1.6 dB of connections), a multimode margin of 0.5 dB (the gap between two
+		// pairs at the ANSI/TIA-568.3-D maximum, 0.75 dB, and the design's 0.5 dB: tester 14 F7),
+		// 0.5 dB and one repair splice per 2 km of outside plant for single-mode (common
+		// practice, no published source).
+		{"policy: om3 10G", EngineOptions{}, nil, "om3", 10, 0, two, 500.0 / 3.5},                                           // IEEE 802.3 Clause 52, 2.6 dB (memory): (2.6-1.6-0.5)/3.5 km, 143 m (README)
+		{"policy: om4 10G", EngineOptions{}, nil, "om4", 10, 0, two, 800.0 / 3.5},                                           // IEEE 802.3 Clause 52, OM4 2.9 dB (seen): (2.9-1.6-0.5)/3.5 km, 229 m (README)
+		{"policy: om3 25G", EngineOptions{}, nil, "om3", 25, 0, two, 0},                                                     // IEEE 802.3 Clause 112, 1.8 dB (seen): 1.6 + 0.5 leaves nothing (README)
+		{"policy: om4 25G", EngineOptions{}, nil, "om4", 25, 0, two, 0},                                                     // IEEE 802.3 Clause 112, 1.9 dB (seen): 1.6 + 0.5 leaves nothing (README)
+		{"policy: om4 25G factory-terminated", EngineOptions{Termination: TerminationFactory}, nil, "om4", 25, 0, two, 100}, // IEEE 802.3 Clause 112, 1.9 dB (seen): (1.9-1.0-0.5)/3.5 km = 114 m, beyond the 100 m range
+		{"policy: om4 40G on OM3's pair", EngineOptions{}, nil, "om4", 40, 0, two, 0},                                       // IEEE 802.3 Clause 86, OM3 1.9 dB (memory): 1.6 + 0.5 leaves nothing
+		{"policy: om4 40G factory-terminated", EngineOptions{Termination: TerminationFactory}, nil, "om4", 40, 0, two, 100}, // IEEE 802.3 Clause 86: OM4's own 1.5 dB (seen) leaves (1.5-1.0-0.5) = 0, OM3's 1.9 dB (memory) 114 m, beyond its 100 m range
+		{"policy: os2 10G outdoors", EngineOptions{}, nil, "os2", 10, 0, out, 13600},                                        // computed: 10GBASE-ER with 7 repair splices (0.5 per km) at 13.6 km: 11-1.6-(0.5+7 x 0.3)-6.8 = 0 dB left
+		{"policy: os2 100G indoors", EngineOptions{}, nil, "os2", 100, 0, two, 31800},                                       // computed: 100GBASE-ER4 (18-1.6-0.5)/0.5 km, no repair splices inside
+		// A catalog of one's own that designs at the TIA maxima (0.75 dB a pair) has no gap to
+		// cover: with a multimode margin of 0 and IEEE's own connection allowance (two pairs at
+		// 0.75 dB, no splices: 1.5 dB) it gives IEEE's whole range; a plan's floor comes on top of
 		// the policy, multimode included.
-		{"policy at IEEE's allowance: om4 10G", EngineOptions{PairLossDB: 0.75, Termination: TerminationFactory}, nil, "om4", 10, 0, two, 400}, // IEEE 802.3 Clause 52, 10GBASE-SR on OM4 (seen): 400 m, 2.9 dB = 0.4 km x 3.5 + 1.5
-		{"policy at IEEE's allowance: om3 10G", EngineOptions{PairLossDB: 0.75, Termination: TerminationFactory}, nil, "om3", 10, 0, two, 300}, // IEEE 802.3 Clause 52, 10GBASE-SR on OM3: 300 m (seen), 2.6 dB (memory) against 0.3 km x 3.5 + 1.5 = 2.55
-		{"policy and a 1 dB floor: om4 10G", EngineOptions{LossMarginDB: 1}, nil, "om4", 10, 0, two, 300.0 / 3.5},                              // IEEE 802.3 Clause 52, OM4 2.9 dB (seen): (2.9-1.6-1)/3.5 km, 86 m (README); OM3's 2.6 dB closes nothing
-		{"policy and a 0.3 dB floor: os2 10G outdoors", EngineOptions{LossMarginDB: 0.3}, nil, "os2", 10, 0, out, 13600},                       // computed: a floor under the single-mode policy (0.5 dB and repair splices) changes nothing
+		{"policy at IEEE's allowance: om4 10G", EngineOptions{PairLossDB: 0.75, Termination: TerminationFactory, Margins: &MarginPolicy{SinglemodeDB: 0.5, RepairSplicesPerKm: 0.5}}, nil, "om4", 10, 0, two, 400}, // IEEE 802.3 Clause 52, 10GBASE-SR on OM4 (seen): 400 m, 2.9 dB = 0.4 km x 3.5 + 1.5
+		{"policy at IEEE's allowance: om3 10G", EngineOptions{PairLossDB: 0.75, Termination: TerminationFactory, Margins: &MarginPolicy{SinglemodeDB: 0.5, RepairSplicesPerKm: 0.5}}, nil, "om3", 10, 0, two, 300}, // IEEE 802.3 Clause 52, 10GBASE-SR on OM3: 300 m (seen), 2.6 dB (memory) against 0.3 km x 3.5 + 1.5 = 2.55
+		{"shipped margin at IEEE's allowance: om4 10G", EngineOptions{PairLossDB: 0.75, Termination: TerminationFactory}, nil, "om4", 10, 0, two, 900.0 / 3.5},                                                     // computed: the shipped 0.5 dB comes on top, (2.9-1.5-0.5)/3.5 km
+		{"policy and a 1 dB floor: om4 10G", EngineOptions{LossMarginDB: 1}, nil, "om4", 10, 0, two, 300.0 / 3.5},                                                                                                  // IEEE 802.3 Clause 52, OM4 2.9 dB (seen): (2.9-1.6-1)/3.5 km, 86 m (README); OM3's 2.6 dB closes nothing
+		{"policy and a 0.3 dB floor: os2 10G outdoors", EngineOptions{LossMarginDB: 0.3}, nil, "os2", 10, 0, out, 13600},                                                                                           // computed: a floor under the single-mode policy (0.5 dB and repair splices) changes nothing
 		{"unknown medium", EngineOptions{}, nil, "om9", 10, 0, two, 0},
 	}
 	for _, tc := range cases {

@@ -49,9 +49,9 @@ func ExampleEngine_MaxChannelM() {
 	}
 	// Output:
 	// cat6a 90 m
-	// om3 286 m
-	// om4 371 m
-	// om5 371 m
+	// om3 143 m
+	// om4 229 m
+	// om5 229 m
 	// os2 17800 m
 }
 
@@ -60,11 +60,11 @@ func ExampleCatalog_Table() {
 		fmt.Println(err)
 	}
 	// Output:
-	// application  rate  wavelength nm  uses      medium  range m  max channel loss dB  min channel loss dB  jacket
-	// 40GBASE-SR4  40G   850            8 fibres  om3     100      1.90                 0.00                 aqua
-	// 40GBASE-SR4  40G   850            8 fibres  om4     150      1.50                 0.00                 aqua
-	// 40GBASE-SR4  40G   850            8 fibres  om5     150      1.50                 0.00                 lime green
-	// 40GBASE-LR4  40G   1310           2 fibres  os2     10000    6.70                 0.00                 yellow
+	// application  IEEE 802.3 clause  rate  wavelength nm  uses      medium  range m  max channel loss dB  min channel loss dB  jacket
+	// 40GBASE-SR4  86                 40G   850            8 fibres  om3     100      1.90                 0.00                 aqua
+	// 40GBASE-SR4  86                 40G   850            8 fibres  om4     150      1.50                 0.00                 aqua
+	// 40GBASE-SR4  86                 40G   850            8 fibres  om5     150      1.50                 0.00                 lime green
+	// 40GBASE-LR4  87                 40G   1310           2 fibres  os2     10000    6.70                 0.00                 yellow
 	//
 	// medium  constructions                                            max cabled attenuation, which every loss budget counts
 	// om3     ofnr-riser, ofnp-plenum, indoor-outdoor, osp-loose-tube  3.50 dB/km at 850 nm, 1.50 dB/km at 1300 nm
@@ -73,7 +73,7 @@ func ExampleCatalog_Table() {
 	// os2     ofnr-riser, ofnp-plenum                                  1.00 dB/km at 1310 nm, 1.00 dB/km at 1550 nm
 	// os2     indoor-outdoor, osp-loose-tube                           0.50 dB/km at 1310 nm, 0.50 dB/km at 1550 nm
 	// connections: field acceptance (ANSI/TIA-568.3-D maxima) mated pair 0.75 dB, splice 0.30 dB; design mated pair 0.50 dB, splice 0.30 dB
-	// margins: multimode 0.00 dB; single-mode 0.50 dB and an allowance of 0.5 repair splices per km of outside plant
+	// margins: multimode 0.50 dB; single-mode 0.50 dB and an allowance of 0.5 repair splices per km of outside plant
 	// higher grades: om4 also uses om3's figures; om5 also uses om4's figures
 	// ranges and losses per IEEE 802.3, see catalog.yaml (embedded)
 }

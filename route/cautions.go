@@ -1,6 +1,7 @@
 package route
 
 import (
+	"maps"
 	"slices"
 	"strings"
 
@@ -23,6 +24,22 @@ type Caution struct {
 	// places are the handholes on a span or lateral Where names, each by its place in
 	// metres (estimate.MetresText), which WhereIn writes in another output's units.
 	places []estimate.PullPoint
+	// legs are the indices in Result.Legs of the legs whose own work calls for it (LegCautions).
+	legs []int
+}
+
+// LegCautions are the IDs of the cautions (Result.Cautions, in their order) that leg i's own
+// work calls for: the spans, junctions and laterals of its route that the caution is about,
+// its medium for the laser and copper cautions. links.csv gives them per row, short keys into
+// the safety sheet that lists each in full (tester 14 F16); none for an infeasible leg.
+func (r *Result) LegCautions(i int) []string {
+	var ids []string
+	for _, c := range r.Cautions {
+		if slices.Contains(c.legs, i) {
+			ids = append(ids, c.ID)
+		}
+	}
+	return ids
 }
 
 // WhereIn is Where with the distances of the handholes it names written by length (an
@@ -112,13 +129,20 @@ func cautionsOf(r *Result) []Caution {
 	aerialLegs, tunnelLegs, buriedLegs := 0, 0, 0
 	fibre := 0
 	var copperLegs, protectedAt seenList
+	facts := make([]legFacts, len(r.Legs)) // what each feasible leg's own work has, for Caution.legs
 	for i := range r.Legs {
 		l := &r.Legs[i]
 		if !l.Feasible {
 			continue
 		}
+		f := &facts[i]
+		f.feasible = true
+		f.spans, f.junctions = map[string]bool{}, map[string]bool{}
+		f.entrances = []string{l.EntranceTo, l.EntranceFrom}
+		f.buildings = []string{l.Link.To, l.Link.From}
 		onAerial, onTunnel, onBuried := false, false, false
 		for _, st := range l.Steps {
+			f.spans[st.SpanID] = true
 			sp, ok := net.Span(st.SpanID)
 			if !ok {
 				continue
@@ -138,17 +162,22 @@ func cautionsOf(r *Result) []Caution {
 			}
 		}
 		for _, j := range r.Site.JunctionsOf(l.Steps) {
+			f.junctions[j] = true
 			if jn, ok := net.Junction(j); ok && jn.Kind == geo.JunctionStructure && jn.StructureType == geo.StructureMaintenanceHole {
 				holes.add(j)
+				f.holes = true
 			}
 		}
 		aerialLegs += b2i(onAerial)
 		tunnelLegs += b2i(onTunnel)
 		buriedLegs += b2i(onBuried)
+		f.aerial, f.tunnel, f.buried = onAerial, onTunnel, onBuried
 		if m := r.Engine.Catalog().Medium(l.Medium); m != nil {
 			if m.Fibre() {
 				fibre++
+				f.fibre = true
 			} else if l.Outdoor {
+				f.copper = true
 				copperLegs.add(l.Label())
 				for _, en := range []string{l.EntranceTo, l.EntranceFrom} {
 					if en != "" {
@@ -167,7 +196,8 @@ func cautionsOf(r *Result) []Caution {
 	// poles are set in augered holes, a new tunnel is dug and then entered; a new tray is
 	// indoor work with none of these cautions.
 	var newPoles, newTunnel seenList
-	laterals := [2]int{} // trenched, bored
+	laterals := [2]int{}            // trenched, bored
+	powerSpans := map[string]bool{} // the spans of powerWork, for Caution.legs
 	if e := r.Estimate; e != nil {
 		for _, w := range e.Construction.Pieces {
 			isBore := w.Method == geo.MethodBore
@@ -188,6 +218,7 @@ func cautionsOf(r *Result) []Caution {
 				trench.add(w.Span)
 			}
 			if sp, ok := net.Span(w.Span); ok && sp.EMI == geo.EMIHigh {
+				powerSpans[w.Span] = true
 				if isBore {
 					powerWork.add("directional bore along span " + w.Span)
 				} else {
@@ -199,7 +230,8 @@ func cautionsOf(r *Result) []Caution {
 	pits := pitsOf(r)
 	var pitNames, onBanks []string
 	var bankPathways seenList
-	var places []estimate.PullPoint // of the pits on spans and laterals, for Caution.WhereIn
+	var places []estimate.PullPoint                           // of the pits on spans and laterals, for Caution.WhereIn
+	emiPits, bankPits := map[string]bool{}, map[string]bool{} // by name, for Caution.legs
 	for _, p := range pits {
 		pitNames = append(pitNames, p.name)
 		if p.at != nil {
@@ -218,10 +250,12 @@ func cautionsOf(r *Result) []Caution {
 				if len(onBanks) == 0 || onBanks[len(onBanks)-1] != p.name {
 					onBanks = append(onBanks, p.name)
 				}
+				bankPits[p.name] = true
 				bankPathways.add(sp.PathwayID)
 			}
 		}
 		if len(emi) > 0 {
+			emiPits[p.name] = true
 			powerWork.add("handhole " + p.name + " at " + strings.TrimPrefix(spansText(emi, 0), ": "))
 		}
 	}
@@ -369,7 +403,105 @@ func cautionsOf(r *Result) []Caution {
 			Text:   "Copper entering a building from outside needs a listed primary protector at the entrance and bonding; all-dielectric fibre between buildings avoids both.",
 			Source: "NFPA 70 Articles 800 and 805, 800.90 (seen)"})
 	}
+
+	// Which legs' own work calls for each caution: the same sets as above, asked of each leg
+	// through what its route has (its spans, junctions and entrances), by index.
+	const (
+		kTrench  = 1 << iota // new trench on the span
+		kBore                // bored
+		kPoles               // a new pole line
+		kTunnel              // a new tunnel
+		kPower               // new work on a span marked emi high
+		kPit                 // a handhole set here (at the junction, or along the span)
+		kPitEMI              // a handhole set beside a span marked emi high
+		kPitBank             // a handhole set into an existing duct bank
+	)
+	bySpan, byJunction := map[string]int{}, map[string]int{}
+	for _, set := range []struct {
+		ids  []string
+		kind int
+	}{{trench.ids, kTrench}, {bore.ids, kBore}, {newPoles.ids, kPoles}, {newTunnel.ids, kTunnel}, {slices.Sorted(maps.Keys(powerSpans)), kPower}} {
+		for _, id := range set.ids {
+			bySpan[id] |= set.kind
+		}
+	}
+	for _, p := range pits {
+		kind := kPit
+		if emiPits[p.name] {
+			kind |= kPitEMI
+		}
+		if bankPits[p.name] {
+			kind |= kPitBank
+		}
+		if p.at == nil {
+			byJunction[p.name] |= kind
+		}
+		for _, id := range p.spans {
+			if p.at != nil {
+				bySpan[id] |= kind
+			}
+		}
+	}
+	has := make([]int, len(facts)) // per leg: the kinds above its own work has
+	for i := range facts {
+		f := &facts[i]
+		for id := range f.spans {
+			has[i] |= bySpan[id]
+		}
+		for id := range f.junctions {
+			has[i] |= byJunction[id]
+		}
+		for k, b := range f.buildings {
+			if r.Estimate == nil {
+				break
+			}
+			switch w, ok := r.Estimate.Construction.LateralPiece(b, f.entrances[k]); {
+			case ok && w.Method == geo.MethodBore:
+				has[i] |= kBore
+			case ok && w.Method == geo.MethodTrench:
+				has[i] |= kTrench
+			}
+		}
+	}
+	hasKind := func(i, kinds int) bool { return has[i]&kinds != 0 }
+	dug := kTrench | kBore | kPit
+	calls := map[string]func(i int) bool{
+		CautionLocates:  func(i int) bool { return facts[i].buried || hasKind(i, dug|kPoles|kTunnel) },
+		CautionTrench:   func(i int) bool { return hasKind(i, dug|kTunnel) },
+		CautionBore:     func(i int) bool { return hasKind(i, kBore) },
+		CautionPower:    func(i int) bool { return hasKind(i, kPower|kPitEMI) },
+		CautionDuctBank: func(i int) bool { return hasKind(i, kPitBank) },
+		CautionBuried:   func(i int) bool { return facts[i].buried },
+		CautionAerial:   func(i int) bool { return facts[i].aerial || hasKind(i, kPoles) },
+		CautionTunnel:   func(i int) bool { return facts[i].tunnel || hasKind(i, kTunnel) },
+		CautionConfined: func(i int) bool { return facts[i].holes || hasKind(i, kTunnel) },
+		CautionLaser:    func(i int) bool { return facts[i].fibre },
+		CautionCopper:   func(i int) bool { return facts[i].copper },
+	}
+	for k := range out {
+		call, ok := calls[out[k].ID]
+		if !ok {
+			panic("route: cautionsOf lists caution " + out[k].ID + " without the legs that call for it")
+		}
+		for i := range facts {
+			if facts[i].feasible && call(i) {
+				out[k].legs = append(out[k].legs, i)
+			}
+		}
+	}
 	return out
+}
+
+// legFacts is what one feasible leg's own work has, as cautionsOf asks it of each caution:
+// the spans and junctions of its route, its entrances and buildings (its counted laterals),
+// and the kinds of pathway, structure and medium it uses.
+type legFacts struct {
+	feasible         bool
+	spans, junctions map[string]bool
+	// buildings are the leg's two ends and entrances the entrance it uses at each (the
+	// counted laterals it takes), index for index.
+	entrances, buildings                         []string
+	aerial, tunnel, buried, holes, fibre, copper bool
 }
 
 // pit is a handhole the plan sets, dug where a crew works: its place as the structures table

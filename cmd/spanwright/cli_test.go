@@ -182,3 +182,37 @@ func TestStarterCommand(t *testing.T) {
 		t.Error("starter again replaced the edited plan.yaml")
 	}
 }
+
+// TestExitHelpEachStatusOnce: the program's help lists each status once (3 has a line per
+// group of commands under one number), and a command's help gives only the clauses it can
+// return: media and starter never speak of scenarios, merge rows or check's meaning of 3
+// (tester 14 F11).
+func TestExitHelpEachStatusOnce(t *testing.T) {
+	seen := map[string]bool{}
+	for _, l := range strings.Split(exitHelp(""), "\n")[1:] {
+		f := strings.Fields(l)
+		if len(l) > 7 && l[:7] != strings.Repeat(" ", 7) && len(f) > 0 {
+			if seen[f[0]] {
+				t.Errorf("status %s listed twice in the program's help:\n%s", f[0], exitHelp(""))
+			}
+			seen[f[0]] = true
+		}
+	}
+	if len(seen) != 7 {
+		t.Errorf("program's help lists %d statuses, want 7:\n%s", len(seen), exitHelp(""))
+	}
+	for _, cmd := range []string{"media", "starter", "check", "plan", "demo"} {
+		h := exitHelp(cmd)
+		for _, not := range []string{"scenario", "whole sweep", "for sweep", "for check"} {
+			if strings.Contains(h, not) {
+				t.Errorf("spanwright %s --help speaks of %q:\n%s", cmd, not, h)
+			}
+		}
+	}
+	if h := exitHelp("media"); strings.Contains(h, "could not be written") {
+		t.Errorf("media writes no file, yet its help says an output could not be written:\n%s", h)
+	}
+	if h := exitHelp("merge"); !strings.Contains(h, "rows that do not make one whole sweep") {
+		t.Errorf("merge's help lacks its own clause:\n%s", h)
+	}
+}

@@ -24,10 +24,21 @@ const (
 )
 
 // exitStatus is one row of the table of exit statuses: the status, what it means, and the
-// commands that can return it ("" for spanwright with no command or with --version).
+// commands that can return it ("" for spanwright with no command or with --version). A
+// status whose meaning differs between commands has a row per group of them (3, 4); a
+// clause that only some of a row's commands can give is an exitClause of the row, shown in
+// those commands' help only (tester 14 F11).
 type exitStatus struct {
 	Code     int
 	Meaning  string
+	Clauses  []exitClause // added to Meaning for their commands
+	Tail     string       // after the meaning and its clauses, for every command of the row
+	Commands []string
+}
+
+// exitClause is part of a status's meaning that only some of its commands can give.
+type exitClause struct {
+	Text     string
 	Commands []string
 }
 
@@ -37,40 +48,102 @@ var allCommands = []string{"check", "plan", "demo", "media", "sweep", "merge", "
 // exitStatuses is the one table of exit statuses: every help text and the README's table
 // ("Exit status") are made from it (TestExitTableInREADME keeps the README in step).
 var exitStatuses = []exitStatus{
-	{exitOK, "done (for sweep and merge: every scenario planned with all legs feasible)", append([]string{""}, allCommands...)},
-	{exitInternal, "internal error: a bug in spanwright, please report it", append([]string{""}, allCommands...)},
-	{exitInvalid, "invalid input or usage: an unknown command or flag, an invalid file (every problem listed at once), " +
-		"an output that would replace an input or an existing file, an --out folder holding a sub-folder; " +
-		"for sweep and merge a scenario that failed, for merge rows that do not make one whole sweep; running the same command again cannot succeed",
-		append([]string{""}, allCommands...)},
-	{exitInfeasible, "finished, but some links are infeasible (listed with their reasons; everything else is written)",
-		[]string{"plan", "sweep", "merge"}},
-	{exitInfeasible, "checked, but a plan would leave some links infeasible: buildings that cannot reach the hub " +
+	{Code: exitOK, Meaning: "done", Commands: append([]string{""}, allCommands...),
+		Clauses: []exitClause{{"every scenario planned with all legs feasible", []string{"sweep", "merge"}}}},
+	{Code: exitInternal, Meaning: "internal error: a bug in spanwright, please report it", Commands: append([]string{""}, allCommands...)},
+	{Code: exitInvalid, Meaning: "invalid input or usage: an unknown command, flag or argument",
+		Clauses: []exitClause{
+			{"an invalid file (every problem listed at once)", []string{"check", "plan", "media", "sweep", "merge"}},
+			{"an output that would replace an input or an existing file", []string{"plan", "demo", "sweep", "merge", "starter"}},
+			{"an --out folder holding a sub-folder", []string{"plan", "demo"}},
+			{"a scenario that failed", []string{"sweep", "merge"}},
+			{"rows that do not make one whole sweep", []string{"merge"}},
+		},
+		Tail: "running the same command again cannot succeed", Commands: append([]string{""}, allCommands...)},
+	{Code: exitInfeasible, Meaning: "finished, but some links are infeasible (listed with their reasons; everything else is written)",
+		Commands: []string{"plan", "sweep", "merge"}},
+	{Code: exitInfeasible, Meaning: "checked, but a plan would leave some links infeasible: buildings that cannot reach the hub " +
 		"or reach it only through a building routes may not cross, diverse links with no second route (listed in the report above)",
-		[]string{"check"}},
-	{exitEnvironment, "the machine refused: an output could not be written (disk full, quota, no permission, " +
-		"read-only file system, --out names a file) or an input not read (no permission, I/O error); " +
-		"the same command may succeed once that is put right",
-		[]string{"check", "plan", "demo", "media", "sweep", "merge", "starter"}},
-	{exitInterrupt, "stopped by Ctrl-C (SIGINT), nothing left half-written", []string{"check", "plan", "demo", "sweep"}},
-	{exitTerminate, "stopped by SIGTERM, nothing left half-written", []string{"check", "plan", "demo", "sweep"}},
+		Commands: []string{"check"}},
+	{Code: exitEnvironment, Meaning: "the machine refused:",
+		Clauses: []exitClause{
+			{"an output could not be written (disk full, quota, no permission, read-only file system, --out names a file)",
+				[]string{"plan", "demo", "sweep", "merge", "starter"}},
+			{"an input could not be read (no permission, I/O error)", []string{"check", "plan", "media", "sweep", "merge"}},
+		},
+		Tail: "the same command may succeed once that is put right", Commands: allCommands},
+	{Code: exitInterrupt, Meaning: "stopped by Ctrl-C (SIGINT), nothing left half-written", Commands: []string{"check", "plan", "demo", "sweep"}},
+	{Code: exitTerminate, Meaning: "stopped by SIGTERM, nothing left half-written", Commands: []string{"check", "plan", "demo", "sweep"}},
+}
+
+// text is the status's meaning for command, or for the whole program when command is "":
+// the meaning with the clauses that command can give (for the program, every clause, each
+// naming its commands when they are not all of the row's), and the tail.
+func (s exitStatus) text(command string) string {
+	var parts []string
+	for _, c := range s.Clauses {
+		switch {
+		case command == "" && len(c.Commands) < len(s.Commands)-1:
+			who := "for " + andList(c.Commands)
+			if t, ok := strings.CutSuffix(c.Text, ")"); ok {
+				parts = append(parts, t+"; "+who+")")
+			} else {
+				parts = append(parts, c.Text+" ("+who+")")
+			}
+		case command == "" || slices.Contains(c.Commands, command):
+			parts = append(parts, c.Text)
+		}
+	}
+	t := s.Meaning
+	if len(parts) > 0 {
+		sep := ", "
+		if strings.HasSuffix(t, ":") {
+			sep = " "
+		}
+		join := ", "
+		if strings.HasSuffix(t, ":") {
+			join = " or "
+		}
+		t += sep + strings.Join(parts, join)
+	}
+	if s.Tail != "" {
+		t += "; " + s.Tail
+	}
+	return t
+}
+
+// andList is "a", "a and b", "a, b and c".
+func andList(xs []string) string {
+	if len(xs) < 2 {
+		return strings.Join(xs, "")
+	}
+	return strings.Join(xs[:len(xs)-1], ", ") + " and " + xs[len(xs)-1]
 }
 
 // helpWidth is the widest line of the EXIT STATUS sections, in bytes.
 const helpWidth = 92
 
 // exitHelp is the EXIT STATUS section of a command's help ("" for the program's own): every
-// status the command can return, one per line.
+// status the command can return, one per line, each status once. The program's lists every
+// status; one with a row per group of commands names the group before each meaning.
 func exitHelp(command string) string {
 	var b strings.Builder
 	b.WriteString("EXIT STATUS\n")
-	for _, s := range exitStatuses {
+	for i, s := range exitStatuses {
 		if command != "" && !slices.Contains(s.Commands, command) {
 			continue
 		}
+		text := s.text(command)
+		first := command != "" || i == 0 || exitStatuses[i-1].Code != s.Code
+		if command == "" && (!first || i+1 < len(exitStatuses) && exitStatuses[i+1].Code == s.Code) {
+			text = andList(s.Commands) + ": " + text
+		}
 		line := fmt.Sprintf("   %3d ", s.Code)
-		for _, w := range strings.Fields(s.Meaning) {
-			if len(line)+1+len(w) > helpWidth {
+		if !first {
+			line = strings.Repeat(" ", 7)
+		}
+		for j, w := range strings.Fields(text) {
+			if j > 0 && len(line)+1+len(w) > helpWidth {
 				b.WriteString(line + "\n")
 				line = strings.Repeat(" ", 7)
 			}
@@ -97,7 +170,7 @@ func exitTableMarkdown() string {
 		if len(s.Commands) == len(allCommands)+1 {
 			who = "all"
 		}
-		fmt.Fprintf(&b, "| %d | %s | %s |\n", s.Code, strings.ReplaceAll(s.Meaning, "--out", "`--out`"), who)
+		fmt.Fprintf(&b, "| %d | %s | %s |\n", s.Code, strings.ReplaceAll(s.text(""), "--out", "`--out`"), who)
 	}
 	return b.String()
 }

@@ -36,10 +36,13 @@ func sweepCommand() *cli.Command {
 			"scenario's plan.yaml writes its full set later. Every scenario's inputs are checked\n" +
 			"before any is planned: a value or file the plan cannot take stops the sweep with every\n" +
 			"problem at once, status 2, nothing written.\n\n" +
-			"The first scenario is planned from scratch; every other one on the same campus starts\n" +
-			"the optimizer from its routes (summary.json's started_from names it), and\n" +
+			"Every scenario is planned from scratch, as `spanwright plan` plans its plan.yaml alone,\n" +
+			"unless its routing problem is too large for the optimizer's full search from scratch\n" +
+			"(a campus of some hundreds of buildings, never one of a few dozen): such a scenario, on\n" +
+			"the first scenario's campus and hub, starts the optimizer from the first scenario's\n" +
+			"routes (summary.json's started_from names it, blank otherwise), and\n" +
 			"`spanwright plan <scenario>/plan.yaml --start-from OUT/<first scenario>` reproduces it.\n" +
-			"--cold plans every scenario from scratch instead.\n\n" +
+			"--cold plans every scenario from scratch, whatever its size (README, \"Warm start\").\n\n" +
 			"With --shard i/n only the scenarios whose index mod n is i-1 are planned and their\n" +
 			"rows written to OUT/rows-i-of-n.jsonl; `spanwright merge` joins the shards.\n\n" +
 			exitHelp("sweep"),
@@ -51,7 +54,7 @@ func sweepCommand() *cli.Command {
 			&cli.StringFlag{Name: "shard", Usage: "plan part `i/n` of the sweep only: the scenarios whose index mod n is i-1"},
 			&cli.BoolFlag{Name: "quiet", Usage: "print no progress on stderr"},
 			&cli.BoolFlag{Name: "full", Usage: "also write bom.xlsx, plan.gpkg and report.html in every scenario folder (slower)"},
-			&cli.BoolFlag{Name: "cold", Usage: "plan every scenario from scratch, as the plan command plans it alone, instead of starting from the first scenario's routes"},
+			&cli.BoolFlag{Name: "cold", Usage: "plan every scenario from scratch, as the plan command plans it alone, also those too large for the full search from scratch, which otherwise start from the first scenario's routes"},
 			unitsFlag,
 			maxInputFlag,
 			campusDBFlag,
@@ -188,8 +191,11 @@ func printReport(w io.Writer, rep *sweep.Report, shard sweep.Shard) {
 		}
 		fmt.Fprintf(w, "  failed %s: %s\n", escape.Terminal(r.ID), escape.Terminal(strings.ReplaceAll(r.Error, "\n", "; ")))
 	}
-	if rep.Incomplete > 0 {
+	switch {
+	case rep.Incomplete > 0 && rep.OKSets > 1:
 		fmt.Fprintf(w, "note: %s ok but ranked apart: the price book leaves items out of the total, so each is ranked only among scenarios leaving out the same items (rank and pareto say \"(without …)\"; see compare.md's notes)\n", scenarios(rep.Incomplete))
+	case rep.Incomplete > 0:
+		fmt.Fprintf(w, "note: %s ok, every total leaving out the same items the price book does not price: ranked together, on totals without them (rank and pareto say \"(without …)\"; see compare.md's notes)\n", scenarios(rep.Incomplete))
 	}
 	if rep.DemoPrices > 0 {
 		fmt.Fprintf(w, "warning: %s priced by the invented demo price book built into spanwright: not a quotation (see each summary.json)\n", scenarios(rep.DemoPrices))

@@ -407,8 +407,18 @@ func TestSweepPreflightWritesNothing(t *testing.T) {
 // 4 F4).
 func TestPrintReportRankedApart(t *testing.T) {
 	var b strings.Builder
-	printReport(&b, &sweep.Report{Scenarios: 2, Run: 2, OK: 2, Incomplete: 1}, sweep.Shard{})
+	printReport(&b, &sweep.Report{Scenarios: 2, Run: 2, OK: 2, Incomplete: 1, OKSets: 2}, sweep.Shard{})
 	if want := "note: 1 scenario ok but ranked apart: the price book leaves items out of the total, so each is ranked only among scenarios leaving out the same items"; !strings.Contains(b.String(), want) {
+		t.Errorf("terminal:\n%s\nwant %q", b.String(), want)
+	}
+	// Tester 14 F10: six ok scenarios all leaving out the same item are one ranked set, so
+	// nothing is ranked apart.
+	b.Reset()
+	printReport(&b, &sweep.Report{Scenarios: 6, Run: 6, OK: 6, Incomplete: 6, OKSets: 1}, sweep.Shard{})
+	if strings.Contains(b.String(), "apart") {
+		t.Errorf("one ranked set, yet the terminal says ranked apart:\n%s", b.String())
+	}
+	if want := "note: 6 scenarios ok, every total leaving out the same items the price book does not price: ranked together"; !strings.Contains(b.String(), want) {
 		t.Errorf("terminal:\n%s\nwant %q", b.String(), want)
 	}
 }

@@ -3,6 +3,7 @@ package output
 import (
 	"context"
 	"encoding/json"
+	"slices"
 	"strings"
 	"testing"
 
@@ -49,11 +50,14 @@ func TestSummaryCautions(t *testing.T) {
 	}
 }
 
-// TestCSVSafetyPointer (tester 13's finding H): the CSVs a crew and an estimator are handed
-// point to the plan's cautions, and stay one table each for a CSV reader: links.csv in its
-// last column, the same on every row, bom.csv in a closing note row of the bill's eight
-// columns; the pointer counts and names every caution, the files that say what to do, and
-// defers to the codes and the authority having jurisdiction.
+// TestCSVSafetyPointer (tester 13's finding H, tester 14 F16): the CSVs a crew and an
+// estimator are handed point to the plan's cautions, and stay one table each for a CSV
+// reader: bom.csv in a closing note row of the bill's eight columns, the pointer counting and
+// naming every caution, the files that say what to do, deferring to the codes and the
+// authority having jurisdiction; links.csv in its last column, each leg's own cautions by key
+// (the keys the safety sheet and the report give): the laser caution on every fibre leg
+// (IEC 60825-1, -2, from memory), a leg's others only where its own route calls for them,
+// and every caution of the plan called for by some leg.
 func TestCSVSafetyPointer(t *testing.T) {
 	r := testplan.DemoResult(t)
 	note := SafetyNote(r)
@@ -72,10 +76,45 @@ func TestCSVSafetyPointer(t *testing.T) {
 	if head[len(head)-1] != "safety" {
 		t.Errorf("links.csv ends with %q, want safety", head[len(head)-1])
 	}
-	for _, row := range links[1:] {
-		if len(row) != len(head) || row[len(row)-1] != note {
-			t.Errorf("links.csv row %s: %d cells (header %d), last %q", row[0], len(row), len(head), row[len(row)-1])
+	var ids []string
+	for _, c := range r.Cautions {
+		ids = append(ids, c.ID)
+	}
+	called := map[string]bool{}
+	distinct := map[string]bool{}
+	for i, row := range links[1:] {
+		if len(row) != len(head) {
+			t.Errorf("links.csv row %s: %d cells (header %d)", row[0], len(row), len(head))
+			continue
 		}
+		cell := row[len(row)-1]
+		distinct[cell] = true
+		if len(cell) > 120 {
+			t.Errorf("links.csv row %s: safety cell of %d characters, want keys: %q", row[0], len(cell), cell)
+		}
+		keys := strings.Fields(cell)
+		for _, k := range keys {
+			if !slices.Contains(ids, k) {
+				t.Errorf("links.csv row %s: safety key %q is none of the plan's cautions %v", row[0], k, ids)
+			}
+			called[k] = true
+		}
+		l := &r.Legs[i]
+		fibre := l.Feasible && r.Engine.Catalog().Medium(l.Medium) != nil && r.Engine.Catalog().Medium(l.Medium).Fibre()
+		if slices.Contains(keys, route.CautionLaser) != fibre {
+			t.Errorf("links.csv row %s (%s, feasible %v): keys %q, laser caution %v, want %v", row[0], l.Medium, l.Feasible, cell, !fibre, fibre)
+		}
+		if !l.Feasible && cell != "" {
+			t.Errorf("links.csv row %s: an infeasible leg is given cautions %q", row[0], cell)
+		}
+	}
+	for _, id := range ids {
+		if !called[id] {
+			t.Errorf("caution %q is called for by no leg of links.csv", id)
+		}
+	}
+	if len(distinct) < 2 {
+		t.Errorf("every leg of the demo has the same cautions %v: want each leg's own", distinct)
 	}
 	bom := testplan.ReadCSV(t, testplan.FileOf(t, files, "bom.csv"))
 	if last := bom[len(bom)-1]; len(last) != len(bom[0]) || last[0] != rowNote || last[1] != note {

@@ -296,9 +296,10 @@ func linksCSV(out io.Writer, r *route.Result, opt WriteOptions) error {
 	// Last, where the mid-span joins go (SplicesText, as bom.xlsx's links sheet): the
 	// structures table names the legs joined at each.
 	head = append(head, "mid_span_splices_at")
-	// Last, the plan's safety cautions pointed to, the same on every row (SafetyNote).
+	// Last, the leg's own safety cautions, by their keys (route.Result.LegCautions), which
+	// the safety sheet of bom.xlsx, the report's safety section and summary.json's cautions
+	// give in full (tester 14 F16: not the plan's whole note on every row).
 	head = append(head, "safety")
-	safety := SafetyNote(r)
 	w.Write(head)
 	db := func(x float64) string { return strconv.FormatFloat(x, 'f', 2, 64) }
 	for i := range r.Legs {
@@ -336,7 +337,7 @@ func linksCSV(out io.Writer, r *route.Result, opt WriteOptions) error {
 		if l.Feasible {
 			joins = SplicesText(opt, l.Cable.Splices)
 		}
-		w.Write(append(append(row, acceptanceText(l)...), joins, safety))
+		w.Write(append(append(row, acceptanceText(l)...), joins, strings.Join(r.LegCautions(i), " ")))
 	}
 	return w.Flush()
 }
@@ -644,7 +645,7 @@ func newWorkM(e *estimate.Estimate) float64 {
 // Summarize rounds them to 0.1 m for summary.json; the outputs for people show the route and
 // new work converted and then rounded (Units.Rounded), so that a total in feet is the metres'
 // own, and the cable bought as cableCut in their unit, the pieces as written added up.
-type Totals struct{ RouteM, CableM, NewM float64 }
+type Totals struct{ CableM, NewM float64 }
 
 // NewWorkParts is what the new trench figure (estimate.Construction.NewM) holds besides
 // trench, with lengths written by length: "155.0 m of it bored; 45.0 m of it building
@@ -705,13 +706,21 @@ func newConstructionM(e *estimate.Estimate) map[string]float64 {
 
 // TotalsOf adds up the totals of r.
 func TotalsOf(r *route.Result) Totals {
-	t := Totals{NewM: newWorkM(r.Estimate), CableM: cutOf(WriteOptions{}, r).all()}
+	return Totals{NewM: newWorkM(r.Estimate), CableM: cutOf(WriteOptions{}, r).all()}
+}
+
+// RouteListed is the route of the feasible legs in the length unit of u, as every output
+// prints it: the sum of each leg's route as links.csv lists it (u.Rounded to 0.1), so that the
+// rows add up to the total printed beside them. Rounding the sum of the exact lengths instead
+// gave 28,096.7 m over rows adding up to 28,096.8 m (tester 14 F14).
+func RouteListed(u Units, r *route.Result) float64 {
+	var dm int64 // tenths of the unit
 	for _, l := range r.Legs {
 		if l.Feasible {
-			t.RouteM += l.RouteM
+			dm += int64(math.Round(u.Rounded(l.RouteM, 1) * 10))
 		}
 	}
-	return t
+	return float64(dm) / 10
 }
 
 // Summarize digests the result.
@@ -833,7 +842,7 @@ func Summarize(r *route.Result) Summary {
 	if !r.Plan.Design.AllowNewTrench {
 		s.NoNewTrench = NoNewTrenchNote(s)
 	}
-	s.TotalRouteM = round1(tot.RouteM)
+	s.TotalRouteM = RouteListed(UnitsOf(WriteOptions{}), r)
 	s.WarningCount = len(s.Warnings)
 	return s
 }
@@ -885,11 +894,11 @@ func GapText(gapPct *float64) string {
 // bought by construction, new construction, pulling, and the total against the budget,
 // lengths and forces in the units of opt.
 func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
-	s, tot := Summarize(r), TotalsOf(r)
+	s := Summarize(r)
 	u := UnitsOf(opt)
 	length := func(m float64) string { return LengthText(opt, m) }
 	t := escape.Terminal // ids and names from the input, each within a line
-	fmt.Fprintf(w, "plan %q: hub %s, %s, %s, %s of route\n", s.Scenario, t(s.Hub), Counted(s.Links, "link", "links"), Counted(s.Legs, "leg", "legs"), length(tot.RouteM))
+	fmt.Fprintf(w, "plan %q: hub %s, %s, %s, %s of route\n", s.Scenario, t(s.Hub), Counted(s.Links, "link", "links"), Counted(s.Legs, "leg", "legs"), strconv.FormatFloat(RouteListed(u, r), 'f', 1, 64)+" "+u.Length)
 	for _, n := range s.Notes {
 		fmt.Fprintf(w, "note: %s\n", t(n))
 	}
@@ -1073,9 +1082,9 @@ func cautionLine(r *route.Result, bom bool) string {
 // SafetyNote points a reader of the CSVs (the crew's cable schedule links.csv, the estimator's
 // bom.csv) to the plan's safety cautions, which only the files for people and summary.json
 // carry: how many, their titles and where they are written, with the planning aid's
-// deference to the codes; "" when the plan calls for none. links.csv gives it in its last
-// column, the same on every row, and bom.csv in a closing note row, so that a CSV reader
-// still gets one table of the same columns (tester 13's finding H).
+// deference to the codes; "" when the plan calls for none. bom.csv gives it in a closing note
+// row, so that a CSV reader still gets one table of the same columns (tester 13's finding H);
+// links.csv gives each leg's own cautions by key instead (route.Result.LegCautions).
 func SafetyNote(r *route.Result) string {
 	if len(r.Cautions) == 0 {
 		return ""

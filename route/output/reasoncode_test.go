@@ -38,11 +38,12 @@ func TestReasonCodes(t *testing.T) {
 		{5, map[string]string{"A-B/primary": routing.CodeNoRoute, "A-B/diverse": routing.CodePrimary,
 			"A-C/primary": routing.CodeNoRoute, "A-C/diverse": routing.CodePrimary}},
 		{100, map[string]string{"A-B/primary": media.CodeOnly, "A-B/diverse": routing.CodeNoDiverse,
-			"A-C/primary": media.CodeCheapest, "A-C/diverse": routing.CodeNoDiverse}},
+			"A-C/primary": media.CodeOnly, "A-C/diverse": routing.CodeNoDiverse}},
 	} {
-		// No structure slack loops: A-C's 372.67 m channel (a loop in the handhole where its
-		// new pathway joins) leaves OM4 and OM5 at 0 dB margin; without loops the multimode
-		// media stay feasible and os2 is the cheapest of several, as this case needs.
+		// No structure slack loops: A-C's channel is then 366.67 m, which OM4 and OM5 closed
+		// with 0.02 dB (os2 was the cheapest of several, CHEAPEST) until the multimode margin
+		// of 0.5 dB (tester 14 F7): os2 is the only feasible medium (media's TestChoose
+		// covers CHEAPEST).
 		r, err := testplan.PullSolve(t, tc.ductMM, 1, func(p *plan.Plan) {
 			p.Defaults.Redundancy = "diverse"
 			p.Design.SlackLoopStructureM = 0

@@ -461,7 +461,7 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 	v.HubName = names[r.Hub]
 	v.Feasible = s.Legs - s.Infeasible
 	tot := output.TotalsOf(r)
-	v.TotalRoute = opt.lengthU(tot.RouteM)
+	v.TotalRoute = group(strconv.FormatFloat(output.RouteListed(opt.units(), r), 'f', 1, 64)) + " " + opt.units().Length
 	v.NewTrench = opt.lengthU(tot.NewM)
 	if r.Estimate != nil {
 		v.NewWorkParts = output.NewWorkParts(r.Estimate.Construction, opt.lengthU)

@@ -86,7 +86,11 @@ type sweepView struct {
 	Infeasible int
 	Failed     int
 	Pareto     int
-	Incomplete int // ok scenarios not ranked: their totals leave out items not priced (sweep.Row.Incomplete)
+	Incomplete int // ok scenarios whose totals leave out items not priced (sweep.Row.Incomplete), ranked among the same exclusion
+	// Apart and ApartOK are set when the ranked rows, and the ok rows, make more than one
+	// ranked set (sweep.RankSets): only then is such a row ranked apart from others (tester 14
+	// F10).
+	Apart, ApartOK bool
 	// InfeasibleRanked counts the scenarios with infeasible legs ranked among those leaving
 	// the same legs unserved (sweep.Row.Apart).
 	InfeasibleRanked int
@@ -160,6 +164,7 @@ func sweepViewOf(c *sweep.Comparison, opt SweepOptions) *sweepView {
 		v.Cols = append(v.Cols, sweepCol{m.Name + " (" + cur + ")", true})
 	}
 	v.Cols = append(v.Cols, sweepCol{"safety cautions", false})
+	v.Apart, v.ApartOK = c.RankSets > 1, c.OKSets > 1
 	var cheapest []string // the cheapest ok scenarios, every one of a tie (sweep.TiedText)
 	var cheapestCents int64
 	for i := range c.Rows {
@@ -364,6 +369,14 @@ func scatterOf(c *sweep.Comparison) scatter {
 		}
 	}
 	sort.SliceStable(order, func(a, b int) bool { return !c.Rows[order[a]].Pareto && c.Rows[order[b]].Pareto })
+	// "ranked apart" only when there is another ranked set to be apart from (tester 14 F10).
+	rankWord, apartWord := "ranked ", ""
+	if c.RankSets > 1 {
+		rankWord = "ranked apart: "
+	}
+	if c.OKSets > 1 {
+		apartWord = "ranked apart: "
+	}
 	for _, i := range order {
 		j := c.Rows[i]
 		x := px(float64(j.TotalCents) / 100)
@@ -379,11 +392,11 @@ func scatterOf(c *sweep.Comparison) scatter {
 		case j.Status == sweep.StatusInfeasible:
 			p.Class = "pt pt-infeasible"
 			if j.Rank > 0 { // the rank names what its total leaves out
-				p.Title += ", ranked apart: " + sweep.RankText(&j.Row, j.Rank)
+				p.Title += ", " + rankWord + sweep.RankText(&j.Row, j.Rank)
 			}
 		case j.Incomplete():
 			p.Class = "pt pt-incomplete"
-			p.Title += ", ranked apart: its total leaves out " + j.Exclusion() + ", ranked " + sweep.RankText(&j.Row, j.Rank)
+			p.Title += ", " + apartWord + "its total leaves out " + j.Exclusion() + ", ranked " + sweep.RankText(&j.Row, j.Rank)
 		case j.Pareto:
 			p.Class = "pt pt-pareto"
 			p.Label = "#" + strconv.Itoa(j.Index)

@@ -721,10 +721,16 @@ func textOrBlank(s string) workbook.Cell {
 
 // tally counts the scenarios by status: ok, with infeasible legs, failed (any other).
 // Of the ok ones, incomplete counts those whose totals leave out items not priced.
-type tally struct{ ok, infeasible, failed, incomplete int }
+// okSets is the number of sets the ok scenarios are ranked in (RankSets, okOnly).
+type tally struct{ ok, infeasible, failed, incomplete, okSets int }
 
 func tallyOf(js []judged) tally {
 	var n tally
+	rows := make([]Row, len(js))
+	for i, j := range js {
+		rows[i] = *j.Row
+	}
+	n.okSets = RankSets(rows, true)
 	for _, j := range js {
 		switch j.Status {
 		case StatusOK:
@@ -776,13 +782,17 @@ func compareMD(js []judged, keys []string, cur string, fixed []column) []byte {
 		fmt.Fprintf(&b, "line together; Pareto over total cost, worst loss margin (higher is better) and links lacking a diverse route.\n")
 	}
 	unservedMD(&b, js, n)
-	if n.incomplete > 0 {
+	switch {
+	case n.incomplete > 0 && n.okSets > 1:
 		why := "its total leaves out items its price book does not price"
 		if n.incomplete > 1 {
 			why = "their totals leave out items their price books do not price"
 		}
 		fmt.Fprintf(&b, "%s ranked apart: %s; each is ranked among those leaving out the same items, never against a complete total (rank and pareto say \"(without …)\"; see the notes).\n",
 			output.Counted(n.incomplete, "ok scenario", "ok scenarios"), why)
+	case n.incomplete > 0:
+		fmt.Fprintf(&b, "%s: every total leaves out the same items, which the price books do not price; they are ranked together on those totals (rank and pareto say \"(without …)\"; see the notes).\n",
+			output.Counted(n.incomplete, "ok scenario", "ok scenarios"))
 	}
 	b.WriteString("\n")
 	if len(front) > 0 {

@@ -122,3 +122,52 @@ func TestRowKeepsNotPriced(t *testing.T) {
 		t.Errorf("an infeasible row is not also incomplete: %+v", r)
 	}
 }
+
+// TestOneRankedSetNotApart: when every ok scenario leaves out the same unpriced item they are
+// one ranked set, and neither compare.md nor the terminal says they are "ranked apart", even
+// beside scenarios with infeasible legs, ranked in sets of their own (tester 14 F10: six ok
+// scenarios, all without pole_riser_each, ranked 1 to 6 together beside twelve infeasible).
+func TestOneRankedSetNotApart(t *testing.T) {
+	t.Parallel()
+	risers := []string{"pole_riser_each"}
+	rows := []Row{
+		{Index: 0, ID: "a", Status: StatusOK, TotalCents: 200, WorstMarginDB: fp(1), NotPriced: risers},
+		{Index: 1, ID: "b", Status: StatusOK, TotalCents: 100, WorstMarginDB: fp(1), NotPriced: risers},
+		{Index: 2, ID: "c", Status: StatusFailed, Error: "boom"},
+		{Index: 3, ID: "d", Status: StatusInfeasible, TotalCents: 50, WorstMarginDB: fp(1), NotPriced: risers, InfeasibleLegs: 1, Unserved: []string{"A-B/diverse"}},
+	}
+	if n := RankSets(rows, true); n != 1 {
+		t.Fatalf("RankSets of the ok rows = %d, want 1", n)
+	}
+	if c := Judge(rows, nil); c.OKSets != 1 || c.RankSets != 2 {
+		t.Errorf("Comparison: OKSets %d, RankSets %d, want 1 and 2", c.OKSets, c.RankSets)
+	}
+	var rep Report
+	for _, r := range rows {
+		rep.count(r)
+	}
+	if rep.OKSets != 1 || rep.Incomplete != 2 {
+		t.Errorf("Report: OKSets %d Incomplete %d, want 1 and 2", rep.OKSets, rep.Incomplete)
+	}
+	files, err := Compare(rows, nil, "")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, f := range files {
+		if f.Name != CompareMD {
+			continue
+		}
+		text := string(f.Data)
+		if strings.Contains(text, "ok scenarios ranked apart") {
+			t.Errorf("compare.md says the ok scenarios are ranked apart, in one ranked set:\n%s", text)
+		}
+		if want := "2 ok scenarios: every total leaves out the same items"; !strings.Contains(text, want) {
+			t.Errorf("compare.md lacks %q:\n%s", want, text)
+		}
+	}
+	// A complete scenario beside them makes two sets: now they are ranked apart.
+	rows = append(rows, Row{Index: 4, ID: "e", Status: StatusOK, TotalCents: 300, WorstMarginDB: fp(1)})
+	if n := RankSets(rows, true); n != 2 {
+		t.Errorf("RankSets of the ok rows with a complete one = %d, want 2", n)
+	}
+}

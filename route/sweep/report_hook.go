@@ -36,13 +36,16 @@ type Comparison struct {
 	// Units are the units the scenarios' files for people are in (output.UnitsImperial, or
 	// "" for metric): the report shows lengths in them, as compare.csv does.
 	Units string
+	// RankSets and OKSets are the numbers of sets the ranked rows and the ok rows are ranked
+	// in (RankSets): a row is said to be ranked apart only when its kind has more than one.
+	RankSets, OKSets int
 }
 
 // Judge ranks rows (every scenario of a sweep, in index order) and flags the Pareto-optimal
 // ones, as Compare does for compare.csv.
 func Judge(rows []Row, keys []string) *Comparison {
 	js := judge(rows)
-	c := &Comparison{Keys: append([]string(nil), keys...), Rows: make([]Judged, len(js)), Currency: currencyOf(rows)}
+	c := &Comparison{Keys: append([]string(nil), keys...), Rows: make([]Judged, len(js)), Currency: currencyOf(rows), RankSets: RankSets(rows, false), OKSets: RankSets(rows, true)}
 	for i, j := range js {
 		c.Rows[i] = Judged{Row: *j.Row, Rank: j.rank, Pareto: j.pareto, Dir: url.PathEscape(j.ID)}
 	}

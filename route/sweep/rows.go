@@ -196,6 +196,22 @@ func (r *Row) group() string {
 	return legs + "\x01" + strings.Join(slices.Sorted(slices.Values(r.NotPriced)), "\x00")
 }
 
+// RankSets is the number of sets the comparison ranks apart from one another among rows: the
+// distinct groups (the same legs unserved, the same items not priced) of the ranked rows, or
+// with okOnly of the ok rows alone (the items not priced). An ok row is said to be ranked
+// apart only when the ok rows make more than one set, a row with infeasible legs only when
+// the ranked rows do (tester 14 F10: six ok rows all without the same item, beside rows with
+// infeasible legs, were said to be ranked apart).
+func RankSets(rows []Row, okOnly bool) int {
+	sets := map[string]bool{}
+	for i := range rows {
+		if rows[i].Ranked() && (!okOnly || rows[i].Status == StatusOK) {
+			sets[rows[i].group()] = true
+		}
+	}
+	return len(sets)
+}
+
 // Ranked reports whether the comparison ranks the row: an ok scenario, or an infeasible one
 // whose unserved legs are named (Unserved), ranked among those leaving the same legs out.
 func (r *Row) Ranked() bool {

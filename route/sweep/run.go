@@ -119,10 +119,15 @@ type Report struct {
 	OK         int
 	Infeasible int // planned with some legs infeasible
 	Failed     int
-	Failures   []Row    // the failed scenarios' rows, in index order
-	DemoPrices int      // scenarios priced by the invented demo price book
-	Incomplete int      // of OK, those ranked apart: their totals leave out items not priced (Row.Incomplete), ranked among the same exclusion
-	Files      []string // files written besides the scenario folders, sorted
+	Failures   []Row // the failed scenarios' rows, in index order
+	DemoPrices int   // scenarios priced by the invented demo price book
+	Incomplete int   // of OK, those whose totals leave out items not priced (Row.Incomplete), ranked among the same exclusion
+	// OKSets is the number of sets the comparison ranks the ok scenarios in (RankSets with
+	// okOnly: one per set of items not priced); an ok scenario is "ranked apart" only when
+	// there is more than one.
+	OKSets int
+	sets   map[string]bool // the groups counted in OKSets
+	Files  []string        // files written besides the scenario folders, sorted
 	// Notes say what the run did that the user may not expect: a kept base scenario planned
 	// again because its folder was not as the sweep wrote it, folders in the output folder
 	// that no scenario of this sweep file has.
@@ -158,6 +163,13 @@ func (e infeasibleRows) Unwrap() error { return route.ErrInfeasible }
 func (r *Report) count(row Row) {
 	if row.DemoPrices {
 		r.DemoPrices++
+	}
+	if row.Status == StatusOK {
+		if r.sets == nil {
+			r.sets = map[string]bool{}
+		}
+		r.sets[row.group()] = true
+		r.OKSets = len(r.sets)
 	}
 	switch row.Status {
 	case StatusOK:
