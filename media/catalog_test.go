@@ -460,7 +460,7 @@ func TestCatalogParseErrors(t *testing.T) {
 		// ITU-T G.Sup39: the optical bands end at 1675 nm.
 		{"wavelength out of range", "wavelengths_nm: [850]", "wavelengths_nm: [85000]", `wavelengths_nm[0]: want a whole number of nm from 400 to 2000, got 85000`},
 		// YAML 1.2.2 §3.2.1.1: the keys of a mapping are unique.
-		{"duplicate nested key", "connections: {mated_pair_db: 0.75, splice_db: 0.3}", "connections: {mated_pair_db: 0.75, splice_db: 0.3, splice_db: 0.1}", `x.yaml:2:52: connections.splice_db: given twice, at line 2 and line 2`},
+		{"duplicate nested key", "connections: {mated_pair_db: 0.75, splice_db: 0.3}", "connections: {mated_pair_db: 0.75, splice_db: 0.3, splice_db: 0.1}", `x.yaml:2:52: connections.splice_db: given twice on line 2, at columns 36 and 52`},
 		{"duplicate top-level key", "connections: {mated_pair_db: 0.75, splice_db: 0.3}\n", "connections: {mated_pair_db: 0.75, splice_db: 0.3}\nconnections: {mated_pair_db: 0.1, splice_db: 0.1}\n", `x.yaml:3:1: connections: given twice, at line 2 and line 3; remove one`},
 	}
 	for _, tc := range cases {
