@@ -232,6 +232,9 @@ func TestTradeWordHints(t *testing.T) {
 	pathway := func(key, v string) []byte {
 		return gisCampus(`"properties":{"id":"P","` + key + `":"` + v + `"},` + gisLine)
 	}
+	building := func(role string) []byte {
+		return gisCampus(`"properties":{"id":"B","role":"` + role + `"},` + gisSquare)
+	}
 	cases := []struct {
 		name string
 		data []byte
@@ -260,6 +263,12 @@ func TestTradeWordHints(t *testing.T) {
 		{"HDD", pathway("method", "HDD"), `got string "HDD"; did you mean "bore"?`},
 		{"grass", pathway("surface", "grass"), `got string "grass"; did you mean "turf"?`},
 		{"typo", pathway("type", "aerail"), `got string "aerail"; did you mean "aerial"?`},
+		// Tester 14 F17: MDF and IDF are the everyday words for the main and intermediate
+		// cross-connect of ANSI/TIA-568 (common practice, no published source).
+		{"idf", building("idf"), `got string "idf"; did you mean "ic"? ("idf" is the trade's other word for it)`},
+		{"MDF", building("MDF"), `got string "MDF"; did you mean "mc"? ("MDF" is the trade's other word for it)`},
+		{"campus distributor", building("Campus Distributor"), `got string "Campus Distributor"; did you mean "mc"?`},
+		{"hc", building("HC"), `got string "HC"; ` + hcWhy},
 		// A structure type said of a pathway: no structure value is offered for it.
 		{"manhole pathway", pathway("type", "manhole"), `got string "manhole"` + "\n"},
 	}

@@ -1173,6 +1173,12 @@ var tradeWords = map[string]string{
 	"in-service": StatusExisting, "active": StatusExisting, "as-built": StatusExisting,
 
 	"main-cross-connect": RoleMC, "intermediate-cross-connect": RoleIC,
+	// MDF and IDF (main and intermediate distribution frame) are the everyday words for the
+	// rooms ANSI/TIA-568 calls the main and intermediate cross-connect (common practice, no
+	// published source); ISO/IEC 11801 names the same levels campus and building distributor
+	// (from memory).
+	"mdf": RoleMC, "main-distribution-frame": RoleMC, "campus-distributor": RoleMC,
+	"idf": RoleIC, "intermediate-distribution-frame": RoleIC, "building-distributor": RoleIC,
 
 	"grass": SurfaceTurf, "lawn": SurfaceTurf,
 	"blacktop": SurfaceAsphalt, "tarmac": SurfaceAsphalt,
@@ -1194,8 +1200,17 @@ var notOneValue = map[string]struct {
 	"abandoned":    {[]string{StatusExisting, StatusProposed}, "a pathway that can carry no cable is left out of the campus"},
 	"retired":      {[]string{StatusExisting, StatusProposed}, "a pathway that can carry no cable is left out of the campus"},
 	"paved":        {[]string{SurfaceAsphalt, SurfaceConcrete}, `say which paving: "asphalt" or "concrete"`},
-	"paving":       {[]string{SurfaceAsphalt, SurfaceConcrete}, `say which paving: "asphalt" or "concrete"`},
+	// A horizontal cross-connect (ANSI/TIA-568; ISO/IEC 11801's floor distributor, from
+	// memory) serves its floor's outlets: the backbone ends there at a served building.
+	"hc":                       {[]string{RoleMC, RoleIC}, hcWhy},
+	"horizontal-cross-connect": {[]string{RoleMC, RoleIC}, hcWhy},
+	"floor-distributor":        {[]string{RoleMC, RoleIC}, hcWhy},
+	"telecommunications-room":  {[]string{RoleMC, RoleIC}, hcWhy},
+	"paving":                   {[]string{SurfaceAsphalt, SurfaceConcrete}, `say which paving: "asphalt" or "concrete"`},
 }
+
+// hcWhy is the hint for a building's role given as a horizontal cross-connect.
+const hcWhy = `a horizontal cross-connect (a telecommunications room) serves its own floor: a building the backbone only serves takes no role; "ic" is a building that other buildings' backbone cables come to, "mc" the campus's hub`
 
 // poleWhy is the hint for a structure typed as a pole: a pole is no structure in the ground
 // but the junction of aerial spans (Meeting.Open), or a riser pole beside a handhole.
