@@ -257,6 +257,9 @@ type loader struct {
 	// smallDucts are the pathways whose duct_mm is below SmallestDuctMM, in the order read
 	// (smallDuctWarnings).
 	smallDucts []smallDuct
+	// tallRisers are the buildings whose riser_m is above TallRiserM, in the order read
+	// (tallRiserWarnings).
+	tallRisers []tallRiser
 	// groups are the shared-risk groups pathways give, with the pathway, in the order read
 	// (groupWarnings).
 	groups []groupUse
@@ -367,6 +370,7 @@ func (l *loader) finish() (*Campus, error) {
 	l.idWarnings()
 	l.blankIDWarnings()
 	l.smallDuctWarnings()
+	l.tallRiserWarnings()
 	l.groupWarnings()
 	l.blankWarnings()
 	c.warns = append(slices.Clone(l.warns), sameFootprints(c.Buildings)...)
@@ -800,6 +804,9 @@ func (f *feature) building(g orb.Geometry, ok bool) {
 	name, _ := f.str(PropName)
 	role, _ := f.enum(PropRole, roles, "")
 	riser := f.num(PropRiserM, DefaultRiserM, riserRange)
+	if riser > TallRiserM {
+		f.l.tallRisers = append(f.l.tallRisers, tallRiser{f.src, f.id, riser})
+	}
 	transit := f.flag(PropTransit)
 	f.l.c.Buildings = append(f.l.c.Buildings, Building{
 		Source: f.src, ID: f.id, Name: name, Role: role, RiserM: riser, Transit: transit, Footprint: fp,
