@@ -260,6 +260,10 @@ type loader struct {
 	// tallRisers are the buildings whose riser_m is above TallRiserM, in the order read
 	// (tallRiserWarnings).
 	tallRisers []tallRiser
+	// near are the properties not read that are a slip for one read, in the order read
+	// (nearFindings); nearMemo remembers nearestName's answers (nearCache).
+	near     []nearUse
+	nearMemo map[string]map[string]string
 	// groups are the shared-risk groups pathways give, with the pathway, in the order read
 	// (groupWarnings).
 	groups []groupUse
@@ -358,6 +362,7 @@ func (l *loader) finish() (*Campus, error) {
 			cmp.Compare(a.Point[1], b.Point[1]), strings.Compare(a.ID, b.ID))
 	})
 	read := len(l.errs.List)
+	l.nearFindings()
 	l.checkEntrances()
 	l.checkMC()
 	l.checkFar()
@@ -612,6 +617,14 @@ type feature struct {
 	id    string
 	kind  string // set once check has decided it: blankDefaults names it
 	props map[string]any
+	// asked are the properties the reader read of the feature (prop), in the order read:
+	// what nearCheck matches the others against. hinted are those a missing problem's
+	// message named a slip for (nearNote).
+	asked, hinted []string
+	askedBuf      [16]string // asked's first array, in the feature's own allocation
+	// taken are the defaults taken for properties not given (defaulted), in the order read.
+	taken    []takenDefault
+	takenBuf [12]takenDefault
 }
 
 func (f *feature) add(prop string, err error) {
@@ -685,7 +698,7 @@ func (f *feature) check(member any, geom orb.Geometry, gerr error, tableKind str
 	if idOK {
 		if f.id == "" {
 			if kindNeedsID(kind) {
-				f.add(PropID, problemf(ErrMissingProperty, "missing%s; every %s needs a unique id", f.emptyNote(PropID), kind))
+				f.add(PropID, problemf(ErrMissingProperty, "missing%s; every %s needs a unique id%s", f.emptyNote(PropID), kind, f.nearNote(PropID)))
 			}
 		} else if kind == KindPathway && strings.Contains(f.id, "/") {
 			f.add(PropID, problemf(ErrBadValue, `want a pathway id without "/" (span ids use it), got %q`, f.id))
@@ -713,6 +726,7 @@ func (f *feature) check(member any, geom orb.Geometry, gerr error, tableKind str
 	case KindEntrance:
 		f.entrance(geom, gerr == nil)
 	}
+	f.nearCheck()
 }
 
 func kindNeedsID(kind string) bool { return kind != KindEntrance }
@@ -723,7 +737,7 @@ func kindNeedsID(kind string) bool { return kind != KindEntrance }
 // are given and differ, the property is the id and a warning says so. It reports false when
 // the id is given but unusable (already reported).
 func (f *feature) readID(member any) bool {
-	prop, propErr := idText(f.props[PropID])
+	prop, propErr := idText(f.prop(PropID))
 	mem, memErr := idText(member)
 	if propErr != nil {
 		f.add(PropID, problemf(ErrWrongType, "want a string or a whole number, got %s", describe(f.props[PropID])))
@@ -976,12 +990,12 @@ func (f *feature) structure(g orb.Geometry, ok bool) {
 func (f *feature) entrance(g orb.Geometry, ok bool) {
 	p := f.point(g, ok, KindEntrance)
 	// The building is named by its id, a string or a whole number as the id itself (idText).
-	b, err := idText(f.props[PropBuilding])
+	b, err := idText(f.prop(PropBuilding))
 	switch {
 	case err != nil:
 		f.add(PropBuilding, problemf(ErrWrongType, "want the id of a building (a string or a whole number), got %s", describe(f.props[PropBuilding])))
 	case b == "":
-		f.add(PropBuilding, problemf(ErrMissingProperty, "missing%s; an entrance names the id of its building", f.emptyNote(PropBuilding)))
+		f.add(PropBuilding, problemf(ErrMissingProperty, "missing%s; an entrance names the id of its building%s", f.emptyNote(PropBuilding), f.nearNote(PropBuilding)))
 	}
 	f.l.c.Entrances = append(f.l.c.Entrances, Entrance{Source: f.src, ID: f.id, Building: b, Point: p})
 }
@@ -993,7 +1007,8 @@ func (f *feature) entrance(g orb.Geometry, ok bool) {
 // A blank of blankDefaults, "" or a GeoJSON null (a database export's unknown), is noted
 // for blankWarnings.
 func (f *feature) given(key string) (any, bool) {
-	v, present := f.props[key]
+	v := f.prop(key)
+	_, present := f.props[key]
 	// A table's NULL is also how it holds a value absent (every row has every column), so
 	// only GeoJSON's null, written where the key could have been left out, is a blank.
 	if (v == "" || present && v == nil && f.src.Table == "") && blankDefaults[key] {
@@ -1087,6 +1102,7 @@ func (f *feature) str(key string) (string, bool) {
 func (f *feature) enum(key string, allowed []string, def string) (string, bool) {
 	v, ok := f.given(key)
 	if !ok {
+		f.defaulted(key, def)
 		return def, false
 	}
 	s, isStr := v.(string)
@@ -1239,6 +1255,7 @@ func containsAll(list, of []string) bool {
 func (f *feature) flag(key string) bool {
 	v, ok := f.given(key)
 	if !ok {
+		f.defaulted(key, false)
 		return false
 	}
 	switch t := v.(type) {
@@ -1264,6 +1281,7 @@ func (f *feature) flag(key string) bool {
 func (f *feature) num(key string, def float64, r input.Range) float64 {
 	v, ok := f.given(key)
 	if !ok {
+		f.defaulted(key, def)
 		return def
 	}
 	n, isNum := v.(json.Number)
@@ -1625,8 +1643,8 @@ func multiPolygon(v any) (orb.MultiPolygon, error) {
 	return mp, nil
 }
 
-// blankDefaultText says what a property given as "" on a feature of kind is taken as: its
-// default, as the reading applies it.
+// blankDefaultText says what a property given as "" (or absent) on a feature of kind is taken
+// as: its default, as the reading applies it.
 func blankDefaultText(kind, key string) string {
 	switch key {
 	case PropType:
@@ -1648,6 +1666,18 @@ func blankDefaultText(kind, key string) string {
 		return fmt.Sprintf("method %q", MethodTrench)
 	case PropRiserM:
 		return fmt.Sprintf("a riser of %g m", DefaultRiserM)
+	case PropRole:
+		return "no role (a building the backbone serves)"
+	case PropTransit:
+		return "no routes through it (transit false)"
+	case PropPlenum:
+		return "no plenum (plenum false)"
+	case PropGroup:
+		return "its own id as its shared-risk group"
+	case PropKind:
+		return fmt.Sprintf("the kind its geometry gives (%s)", kind)
+	case PropName:
+		return "no name"
 	}
 	return "its default"
 }
