@@ -151,14 +151,19 @@ func LoadFSContext(ctx context.Context, fsys fs.FS, names []string) (*Campus, er
 		if err := ctx.Err(); err != nil {
 			return nil, err
 		}
-		data, err := input.ReadFS(fsys, n, input.Cap(0, input.DefaultDataMiB))
-		if err != nil {
-			r.l.fileErr(n, fmt.Errorf("read: %w", input.Cause(err)))
-			continue
-		}
-		r.l.parseFile(n, data)
+		r.ReadFS(fsys, n)
 	}
 	return r.Campus()
+}
+
+// ReadFS reads the GeoJSON file name from fsys, a file of at most input.DefaultDataMiB MiB.
+func (r *Reader) ReadFS(fsys fs.FS, name string) {
+	data, err := input.ReadFS(fsys, name, input.Cap(0, input.DefaultDataMiB))
+	if err != nil {
+		r.l.fileErr(name, fmt.Errorf("read: %w", input.Cause(err)))
+		return
+	}
+	r.l.parseFile(name, data)
 }
 
 // Reader reads one campus from any number of sources: GeoJSON files (ReadFile, Parse) and
@@ -229,7 +234,37 @@ func (r *Reader) AddFile(path string) { r.l.c.Files = append(r.l.c.Files, path) 
 
 // Problem reports a problem of a source as a whole (a file, a table): a reader of another
 // source calls it for what is not one feature's.
-func (r *Reader) Problem(p *input.Problem) { r.l.errs.Add(p) }
+func (r *Reader) Problem(p *input.Problem) {
+	r.l.lost = true
+	r.l.errs.Add(p)
+}
+
+// Partial is what a campus read with problems tells of its buildings, for checking what
+// names them (a plan's hub and links) in the same run (Reader.Partial).
+type Partial struct {
+	// Buildings are the buildings read, by id; their properties may have problems of their
+	// own.
+	Buildings []Building
+	// Unsure are the ids of the features that could not be read far enough to know their
+	// kind (a kind misspelt, no geometry): each may be a building, with any role.
+	Unsure []string
+}
+
+// PartialOf is the Partial of a campus read whole (whose network has problems).
+func PartialOf(c *Campus) *Partial { return &Partial{Buildings: c.Buildings} }
+
+// Partial returns, once Campus has returned problems, what they leave known of the
+// buildings: nil when a feature, file or table could not be read far enough to know its id
+// (it might be the building a plan names), or when the campus read without problems.
+func (r *Reader) Partial() *Partial {
+	l := r.l
+	if l.lost || l.errs.Len() == 0 || l.ctx.Err() != nil {
+		return nil
+	}
+	bs := slices.Clone(l.c.Buildings)
+	slices.SortStableFunc(bs, func(a, b Building) int { return strings.Compare(a.ID, b.ID) })
+	return &Partial{Buildings: bs, Unsure: slices.Sorted(slices.Values(l.unsure))}
+}
 
 // Campus checks the campus as a whole and returns it, or every problem found in any source
 // as an *input.Problems, or the context's error.
@@ -260,6 +295,10 @@ type loader struct {
 	// tallRisers are the buildings whose riser_m is above TallRiserM, in the order read
 	// (tallRiserWarnings).
 	tallRisers []tallRiser
+	// lost is set when a feature, file or table could not be read far enough to know its
+	// id (Reader.Partial); unsure are the ids of features read that far but not to a kind.
+	lost   bool
+	unsure []string
 	// near are the properties not read that are a slip for one read, in the order read
 	// (nearFindings); nearMemo remembers nearestName's answers (nearCache).
 	near     []nearUse
@@ -351,6 +390,7 @@ func (l *loader) finishContext() (*Campus, error) {
 }
 
 func (l *loader) fileErr(file string, err error) {
+	l.lost = true
 	l.errs.Add(&input.Problem{File: file, Err: err})
 }
 
@@ -637,10 +677,12 @@ func (l *loader) parseFeature(src Source, raw json.RawMessage, dups []input.Dupl
 	v, err := decodeAny(raw)
 	obj, ok := v.(map[string]any)
 	if err != nil || !ok {
+		l.lost = true
 		f.add("", problemf(ErrWrongType, "want a Feature object, got %s", describe(v)))
 		return
 	}
 	if t, _ := obj["type"].(string); t != "Feature" {
+		l.lost = true
 		f.add("", problemf(ErrWrongType, `want "type" "Feature", got %s`, describe(obj["type"])))
 		return
 	}
@@ -650,6 +692,7 @@ func (l *loader) parseFeature(src Source, raw json.RawMessage, dups []input.Dupl
 	case map[string]any:
 		f.props = p
 	default:
+		l.lost = true
 		f.add("", problemf(ErrWrongType, `want "properties" to be an object, got %s`, describe(p)))
 		return
 	}
@@ -665,12 +708,17 @@ func (l *loader) parseFeature(src Source, raw json.RawMessage, dups []input.Dupl
 func (f *feature) check(member any, geom orb.Geometry, gerr error, tableKind string) {
 	l := f.l
 	idOK := f.readID(member)
+	if !idOK {
+		l.lost = true // its id, which a plan may name, is not known
+	}
 	kind, hasKind := f.str(PropKind)
 	switch {
 	case hasKind && !contains(kinds, kind):
+		f.unsure(idOK)
 		f.add(PropKind, badEnum(kinds, kind))
 		return
 	case hasKind && tableKind != "" && kind != tableKind:
+		f.unsure(idOK)
 		f.add(PropKind, problemf(ErrBadValue, "want %q in table %s, which holds %ss (or no kind), got %q",
 			tableKind, input.TableName(f.src.Table), tableKind, kind))
 		return
@@ -686,6 +734,7 @@ func (f *feature) check(member any, geom orb.Geometry, gerr error, tableKind str
 		case orb.Point:
 			kind = KindStructure
 		default:
+			f.unsure(idOK) // no kind: a building, perhaps
 			if gerr != nil {
 				f.add("geometry", gerr)
 				return
@@ -727,6 +776,14 @@ func (f *feature) check(member any, geom orb.Geometry, gerr error, tableKind str
 		f.entrance(geom, gerr == nil)
 	}
 	f.nearCheck()
+}
+
+// unsure notes that f could not be read to a kind: its id, when idOK (else lost is set
+// already), may be a building's.
+func (f *feature) unsure(idOK bool) {
+	if idOK && f.id != "" {
+		f.l.unsure = append(f.l.unsure, f.id)
+	}
 }
 
 func kindNeedsID(kind string) bool { return kind != KindEntrance }

@@ -322,6 +322,24 @@ func TestParseRate(t *testing.T) {
 	}
 }
 
+// TestRateText (tester 14 F8): every spelling ParseRate reads is written in one form, so that
+// outputs (links.csv's rate column) and a sweep mixing spellings show one rate; what is no
+// rate is left as given for ParseRate to refuse. The project's rule, not a standard's.
+func TestRateText(t *testing.T) {
+	t.Parallel()
+	for in, want := range map[string]string{
+		"10G": "10G", "10Gb": "10G", "10 Gbps": "10G", "10g": "10G", "10": "10G", "10Gb/s": "10G", " 40G ": "40G",
+		"2.5G": "2.5G", "100 gbit/s": "100G", "fast": "fast", "": "", "-10G": "-10G",
+	} {
+		if got := RateText(in); got != want {
+			t.Errorf("RateText(%q) = %q, want %q", in, got, want)
+		}
+		if r, err := ParseRate(in); err == nil && RateText(in) != FormatRate(r) {
+			t.Errorf("RateText(%q) = %q, ParseRate reads %s", in, RateText(in), FormatRate(r))
+		}
+	}
+}
+
 func TestCatalogTable(t *testing.T) {
 	t.Parallel()
 	c := DefaultCatalog()
