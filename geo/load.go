@@ -291,10 +291,10 @@ type loader struct {
 	blankIDs []idCand
 	// smallDucts are the pathways whose duct_mm is below SmallestDuctMM, in the order read
 	// (smallDuctWarnings).
-	smallDucts []smallDuct
+	smallDucts []unitSlip
 	// tallRisers are the buildings whose riser_m is above TallRiserM, in the order read
 	// (tallRiserWarnings).
-	tallRisers []tallRiser
+	tallRisers []unitSlip
 	// lost is set when a feature, file or table could not be read far enough to know its
 	// id (Reader.Partial); unsure are the ids of features read that far but not to a kind.
 	lost   bool
@@ -876,7 +876,7 @@ func (f *feature) building(g orb.Geometry, ok bool) {
 	role, _ := f.enum(PropRole, roles, "")
 	riser := f.num(PropRiserM, DefaultRiserM, riserRange)
 	if riser > TallRiserM {
-		f.l.tallRisers = append(f.l.tallRisers, tallRiser{f.src, f.id, riser})
+		f.l.tallRisers = append(f.l.tallRisers, unitSlip{f.src, f.id, riser})
 	}
 	transit := f.flag(PropTransit)
 	f.l.c.Buildings = append(f.l.c.Buildings, Building{
@@ -1001,7 +1001,7 @@ func (f *feature) pathway(g orb.Geometry, ok bool) {
 	}
 	ductMM := f.num(PropDuctMM, DefaultDuctMM, ductRange)
 	if ductMM < SmallestDuctMM {
-		f.l.smallDucts = append(f.l.smallDucts, smallDuct{f.src, f.id, ductMM})
+		f.l.smallDucts = append(f.l.smallDucts, unitSlip{f.src, f.id, ductMM})
 	}
 	f.l.c.Pathways = append(f.l.c.Pathways, Pathway{
 		Source:     f.src,

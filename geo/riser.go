@@ -14,23 +14,13 @@ import (
 // still refuses what no building could have.
 const TallRiserM = 300.0
 
-// tallRiser is a building whose riser_m is above TallRiserM.
-type tallRiser struct {
-	src    Source
-	id     string
-	riserM float64
-}
-
 // tallRiserWarnings warns of each building whose riser_m is above TallRiserM, naming the
 // unit that would make sense of the number; one warning per file, on the first, when more
 // than idWarningsEach do.
 func (l *loader) tallRiserWarnings() {
-	warnPerFile(l, l.tallRisers, func(r tallRiser) (Source, string) { return r.src, r.id },
-		func(r tallRiser) string { return tallRiserText(r.riserM, "") },
-		func(r tallRiser, more int) string {
-			return tallRiserText(r.riserM, fmt.Sprintf(" (%s of this file give more than %g m too)",
-				input.Counted(more, "more building", "more buildings"), TallRiserM))
-		})
+	l.unitSlipWarnings(l.tallRisers, tallRiserText, func(n int) string {
+		return fmt.Sprintf(" (%s of this file give more than %g m too)", input.Counted(n, "more building", "more buildings"), TallRiserM)
+	})
 }
 
 // tallRiserText is the warning on a riser_m of riserM above TallRiserM; more is said of the

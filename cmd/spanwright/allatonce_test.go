@@ -106,6 +106,21 @@ func TestEveryInputProblemAtOnce(t *testing.T) {
 		book + `: price "added-duct": missing; add added_duct_per_m`,
 	}
 	out := filepath.Join(dir, "out")
+	planAndCheckRefused(t, plan, out, want)
+
+	// The plan right, the rest not: the campus and the price book still come out together.
+	editFile(t, dir, "plan.yaml", "  allow_outdoor_coper: true\n", "")
+	_, msg, code := run(t, "plan", plan, "--out", out)
+	if code != exitInvalid {
+		t.Fatalf("plan right: exit %d, want %d: %s", code, exitInvalid, msg)
+	}
+	wantLines(t, "plan right", msg, out, want[1:])
+}
+
+// planAndCheckRefused runs plan (into out) and check on the plan file, and checks that each
+// exits 2 with the lines of want, each once, and that plan wrote nothing.
+func planAndCheckRefused(t *testing.T, plan, out string, want []string) {
+	t.Helper()
 	_, msg, code := run(t, "plan", plan, "--out", out)
 	if code != exitInvalid {
 		t.Fatalf("plan: exit %d, want %d: %s", code, exitInvalid, msg)
@@ -116,14 +131,6 @@ func TestEveryInputProblemAtOnce(t *testing.T) {
 		t.Fatalf("check: exit %d, want %d: %s", code, exitInvalid, msg)
 	}
 	wantLines(t, "check", msg, "", want)
-
-	// The plan right, the rest not: the campus and the price book still come out together.
-	editFile(t, dir, "plan.yaml", "  allow_outdoor_coper: true\n", "")
-	_, msg, code = run(t, "plan", plan, "--out", out)
-	if code != exitInvalid {
-		t.Fatalf("plan right: exit %d, want %d: %s", code, exitInvalid, msg)
-	}
-	wantLines(t, "plan right", msg, out, want[1:])
 }
 
 // TestSkippedBuildingNeedsNoEntrance (tester 10, F9): a building no pathway reaches stops no
@@ -323,21 +330,12 @@ func TestPlanNamesWithCampusProblems(t *testing.T) {
 		campus + `: feature #1 "LAB": property "riser": not read: did you mean "riser_m"? Without it the building is planned with a riser of 15 m; rename the property (property names are matched exactly)`,
 	}
 	out := filepath.Join(dir, "out")
-	_, msg, code := run(t, "plan", plan, "--out", out)
-	if code != exitInvalid {
-		t.Fatalf("plan: exit %d, want %d: %s", code, exitInvalid, msg)
-	}
-	wantLines(t, "plan", msg, out, want)
-	_, msg, code = run(t, "check", plan)
-	if code != exitInvalid {
-		t.Fatalf("check: exit %d, want %d: %s", code, exitInvalid, msg)
-	}
-	wantLines(t, "check", msg, "", want)
+	planAndCheckRefused(t, plan, out, want)
 
 	// KILN's kind misspelt: it may be a building, so a link to it is no problem of the plan's.
 	editFile(t, dir, "campus.geojson", `"kind":"building","id":"KILN"`, `"kind":"buidling","id":"KILN"`)
 	editFile(t, dir, "plan.yaml", "  - {to: GHOST}", "  - {to: GHOST}\n  - {to: KILN}")
-	_, msg, code = run(t, "check", plan)
+	_, msg, code := run(t, "check", plan)
 	if code != exitInvalid {
 		t.Fatalf("check with KILN's kind misspelt: exit %d, want %d: %s", code, exitInvalid, msg)
 	}
