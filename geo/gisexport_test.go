@@ -495,9 +495,11 @@ func TestNearProperties(t *testing.T) {
 		`"id":7,"properties":{"ID":"B4"},`+sq(3),
 		`"id":"B5","properties":{"ID":"B5","OBJECTID":5,"fid":5,"Shape_Length":88.2,"Shape_Area":410.5,"TYPE":"lecture","address":"1 Quarry Lane","height_m":14,"floors":3,"rooms":40,"roof":"flat","duct":"none","state":"ok","names":null,"Role":""},`+sq(4),
 		`"properties":{"id":"P1","Type":"duct","TYPE":"duct","surface_type":"asphalt","owner":"estates","material":"PVC","ducts":4},`+gisLine,
+		`"properties":{"kind":"entrance","Id":"NORTH DOOR","building":"B1"},"geometry":{"type":"Point","coordinates":[10,50.0005]}`,
 	),
 		`#0 (B1): property "NAME" is not read: did you mean "name"? The building is planned with no name (property names are matched exactly)`,
 		`#1 (B2): property "Riser_m" is not read: did you mean "riser_m"? The building gives "riser_m" as 12, which is what is planned (property names are matched exactly)`,
 		`#3 (7): property "ID" is not read: did you mean "id"? The building gives "id" as "7", which is what is planned (property names are matched exactly)`,
+		`#6: property "Id" is not read: did you mean "id"? The entrance is planned with the id "E-" and its building's (property names are matched exactly)`,
 	)
 }

@@ -1735,6 +1735,8 @@ func blankDefaultText(kind, key string) string {
 		return fmt.Sprintf("the kind its geometry gives (%s)", kind)
 	case PropName:
 		return "no name"
+	case PropID:
+		return fmt.Sprintf("the id %q and its building's", EntrancePrefix)
 	}
 	return "its default"
 }

@@ -20,7 +20,7 @@ import (
 //     building's name): a problem of the file, "did you mean riser_m?", as an unknown key of
 //     a plan file is; a default taken silently where the drawing gives a value changes the
 //     bill, and the fix (rename the attribute) is the user's to make;
-//   - the property it means absent, a name: a warning (labels only);
+//   - the property it means absent, a name (a building's name, an entrance's id): a warning;
 //   - the property it means given with another value: a warning (which one is meant?);
 //     with the same value, nothing (an export that writes both);
 //   - the property it means required and absent (a feature's id, an entrance's building):
@@ -176,7 +176,7 @@ func (f *feature) nearCheck() {
 		} else if sameValue(f.props[key], f.takenFor(k)) || k == PropKind && sameValue(f.props[key], f.kind) {
 			continue // "TYPE": "duct", "Kind": "building" on a polygon: what the default gives
 		} else {
-			u.problem = k != PropName
+			u.problem = k != PropName && k != PropID // names: an id is required but of an entrance, named by its building without one
 		}
 		f.l.near = append(f.l.near, u)
 	}
