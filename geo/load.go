@@ -1717,26 +1717,28 @@ func blankDefaultText(kind, key string) string {
 		return fmt.Sprintf("ducts of %g mm", DefaultDuctMM)
 	case PropEMI:
 		return fmt.Sprintf("emi %q", EMINone)
-	case PropSurface:
-		return "no surface (new trench priced on the design's assumed surface)"
 	case PropMethod:
 		return fmt.Sprintf("method %q", MethodTrench)
 	case PropRiserM:
 		return fmt.Sprintf("a riser of %g m", DefaultRiserM)
-	case PropRole:
-		return "no role (a building the backbone serves)"
-	case PropTransit:
-		return "no routes through it (transit false)"
-	case PropPlenum:
-		return "no plenum (plenum false)"
-	case PropGroup:
-		return "its own id as its shared-risk group"
 	case PropKind:
 		return fmt.Sprintf("the kind its geometry gives (%s)", kind)
-	case PropName:
-		return "no name"
 	case PropID:
 		return fmt.Sprintf("the id %q and its building's", EntrancePrefix)
 	}
+	if t, ok := absentTexts[key]; ok {
+		return t
+	}
 	return "its default"
+}
+
+// absentTexts are blankDefaultText's words for the properties whose default is said the same
+// way on every kind.
+var absentTexts = map[string]string{
+	PropSurface: "no surface (new trench priced on the design's assumed surface)",
+	PropRole:    "no role (a building the backbone serves)",
+	PropTransit: "no routes through it (transit false)",
+	PropPlenum:  "no plenum (plenum false)",
+	PropGroup:   "its own id as its shared-risk group",
+	PropName:    "no name",
 }
