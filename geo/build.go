@@ -1323,6 +1323,39 @@ func (b *builder) chordPlace(p *part, k0, k1 int, t float64) place {
 // metre of the drawn footprint).
 const entranceOffM = 1.0
 
+// entranceFarM is how far a declared entrance may lie from its building's footprint at most,
+// in metres: the longest lateral the design draws to a building (max_lateral_m), and never
+// less than entranceOffM. Farther out it cannot be a way through the building's wall that
+// the design would reach, and routes to it would leave the cable from it to the wall out of
+// the bill and the loss budget (tester 14 F4: a GIS join that gave an entrance on a street
+// 327 m away the wrong building id): planEntrance refuses it.
+func (b *builder) entranceFarM() float64 { return max(b.maxLat, entranceOffM) }
+
+// entranceSlip names the likely slip of an entrance at xy too far from building bi: the
+// building whose footprint it lies on, or nearest within entranceFarM (the wrong building
+// id); or, with none that near, a mistyped position.
+func (b *builder) entranceSlip(bi int, xy vec) string {
+	best, bestD := -1, math.Inf(1)
+	r := b.entranceFarM()
+	for i := range b.feet {
+		f := &b.feet[i]
+		if i == bi || f.empty() || xy.x < f.lo.x-r || xy.x > f.hi.x+r || xy.y < f.lo.y-r || xy.y > f.hi.y+r {
+			continue
+		}
+		if d := f.distTo(xy); d <= r && d < bestD {
+			best, bestD = i, d
+		}
+	}
+	if best < 0 {
+		return fmt.Sprintf("; no building's footprint is within %s m of it: a mistyped position, or the wrong building id?", fmtM(r))
+	}
+	other := b.c.Buildings[best]
+	if bestD <= entranceOffM {
+		return fmt.Sprintf("; it lies on the wall of building %q (%s): the wrong building id?", other.ID, other.Source)
+	}
+	return fmt.Sprintf("; building %q (%s) is %.1f m from it: the wrong building id?", other.ID, other.Source, bestD)
+}
+
 // planEntrance makes every declared entrance of the building a door (one off the pathways
 // joins the nearest place on one, within MaxLateralM, by a counted lateral) and chooses the
 // Access among them: one on a pathway (lowest junction ID), else the shortest lateral (to the
@@ -1343,7 +1376,11 @@ func (b *builder) planEntrance(bi int, bl Building, ents []int) accessPlan {
 		// as outside plant (route, cable, trench): say so too.
 		for _, ei := range ents {
 			xy, e := b.mem[b.entMem[ei]].xy, b.c.Entrances[ei]
-			if d := f.distTo(xy); d > entranceOffM {
+			if d := f.distTo(xy); d > b.entranceFarM() {
+				b.add(e.Source, b.entIDs[ei], PropBuilding, problemf(ErrBadValue,
+					"entrance %q is %.1f m from the footprint of its building %q, farther than the longest lateral the design draws to a building (%s m, design: max_lateral_m): an entrance is where cable goes through its building's wall, and routes to this one would end %.1f m short of it%s",
+					b.entIDs[ei], d, bl.ID, fmtM(b.entranceFarM()), d, b.entranceSlip(bi, xy)))
+			} else if d > entranceOffM {
 				b.warns = append(b.warns, warnRec{e.Source, b.entIDs[ei], fmt.Sprintf(
 					"entrance %q of building %q is %.1f m from the building's footprint: routes to it end there, and the cable from it to the wall is not counted; move it to the wall, or check its building",
 					b.entIDs[ei], bl.ID, d)})

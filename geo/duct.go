@@ -21,11 +21,21 @@ const (
 	largestTradeIn = 6
 )
 
-// smallDuct is a pathway whose duct_mm is below SmallestDuctMM.
-type smallDuct struct {
-	src    Source
-	id     string
-	ductMM float64
+// unitSlip is a feature whose value of a length property looks typed in another unit: a
+// duct_mm below SmallestDuctMM, a riser_m above TallRiserM.
+type unitSlip struct {
+	src   Source
+	id    string
+	value float64
+}
+
+// unitSlipWarnings warns of each of slips with text(value, ""), or, for a file with more
+// than idWarningsEach of them, once on its first, text given what more(n) says of the n
+// others.
+func (l *loader) unitSlipWarnings(slips []unitSlip, text func(value float64, more string) string, more func(n int) string) {
+	warnPerFile(l, slips, func(u unitSlip) (Source, string) { return u.src, u.id },
+		func(u unitSlip) string { return text(u.value, "") },
+		func(u unitSlip, n int) string { return text(u.value, more(n)) })
 }
 
 // smallDuctWarnings warns of each pathway whose duct_mm is below SmallestDuctMM (inches or
@@ -34,12 +44,9 @@ type smallDuct struct {
 // range and the unit that would make sense of the number; one warning per file, on the
 // first, when more than idWarningsEach do.
 func (l *loader) smallDuctWarnings() {
-	warnPerFile(l, l.smallDucts, func(d smallDuct) (Source, string) { return d.src, d.id },
-		func(d smallDuct) string { return smallDuctText(d.ductMM, "") },
-		func(d smallDuct, more int) string {
-			return smallDuctText(d.ductMM, fmt.Sprintf(" (%s of this file give less than %g mm too)",
-				input.Counted(more, "more pathway", "more pathways"), SmallestDuctMM))
-		})
+	l.unitSlipWarnings(l.smallDucts, smallDuctText, func(n int) string {
+		return fmt.Sprintf(" (%s of this file give less than %g mm too)", input.Counted(n, "more pathway", "more pathways"), SmallestDuctMM)
+	})
 }
 
 // smallDuctText is the warning on a duct_mm of ductMM below SmallestDuctMM; more is said of

@@ -79,3 +79,43 @@ func TestReadingNits(t *testing.T) {
 		}
 	}
 }
+
+// TestTallRiser (tester 14 F6): a riser_m above TallRiserM (a tower of some 75 storeys;
+// common practice, no published source) is warned of with the centimetres that would make
+// sense of it, and planned as given; one at the bound, or a tall building's 120 m, is not.
+func TestTallRiser(t *testing.T) {
+	t.Parallel()
+	building := func(i int, riser string) string {
+		x := 11 + float64(i)*0.001
+		return fmt.Sprintf(`{"type":"Feature","properties":{"id":"T-%d","riser_m":%s},"geometry":{"type":"Polygon","coordinates":[[[%g,50],[%g,50],[%g,50.0002],[%g,50.0002],[%g,50]]]}}`,
+			i, riser, x, x+0.0003, x+0.0003, x, x)
+	}
+	c, err := Parse("c.geojson", []byte(`{"type":"FeatureCollection","features":[`+
+		strings.Join([]string{building(1, "750"), building(2, "300"), building(3, "120"), building(4, "22.5")}, ",")+`]}`))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(c.warns) != 1 {
+		t.Fatalf("got %d warnings, want 1: %+v", len(c.warns), c.warns)
+	}
+	w := c.warns[0]
+	if want := `#0 (T-1): "riser_m" is 750 m, more than the 300 m riser of a tower of some 75 storeys; centimetres? 750 cm is 7.5 m.`; !strings.HasPrefix(w.src.Short(w.id)+": "+w.msg, want) {
+		t.Errorf("got %s: %s\nwant it to start with %s", w.src.Short(w.id), w.msg, want)
+	}
+	if c.Buildings[0].RiserM != 750 {
+		t.Errorf("riser %g, want 750 as given", c.Buildings[0].RiserM)
+	}
+
+	// More than idWarningsEach in a file: one warning, on the first.
+	var fs []string
+	for i := range 5 {
+		fs = append(fs, building(i, "450"))
+	}
+	c, err = Parse("c.geojson", []byte(`{"type":"FeatureCollection","features":[`+strings.Join(fs, ",")+`]}`))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(c.warns) != 1 || !strings.Contains(c.warns[0].msg, `"riser_m" is 450 m (4 more buildings of this file give more than 300 m too)`) {
+		t.Errorf("got %+v, want one warning for the file", c.warns)
+	}
+}

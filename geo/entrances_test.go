@@ -1,6 +1,7 @@
 package geo
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"math/rand/v2"
@@ -10,6 +11,8 @@ import (
 	"testing"
 
 	"github.com/paulmach/orb"
+
+	"spanwright/geo/input"
 )
 
 // entryList prints a network's entrances as building:id:via@junction.
@@ -94,7 +97,9 @@ func TestEntrancesDeclaredAndFootprint(t *testing.T) {
 		Entrances: []Entrance{
 			{Source: Source{File: "t.geojson", Index: 3}, ID: "E1", Building: "B", Point: at(0, -20)},
 			{Source: Source{File: "t.geojson", Index: 4}, ID: "E2", Building: "B", Point: at(-30, 0)},
-			{Source: Source{File: "t.geojson", Index: 5}, ID: "E3", Building: "B", Point: at(0, 200)},
+			// 29.7 m from the footprint's corner (within max_lateral_m: farther it is refused,
+			// TestEntranceTooFar), 36 m from L's end.
+			{Source: Source{File: "t.geojson", Index: 5}, ID: "E3", Building: "B", Point: at(-20, 38)},
 		},
 	}
 	n := build(t, &c)
@@ -123,7 +128,7 @@ func TestEntrancesDeclaredAndFootprint(t *testing.T) {
 		}
 	}
 	if !warned {
-		t.Errorf("no warning for E3, 200 m from any pathway: %v", n.Warnings)
+		t.Errorf("no warning for E3, 36 m from any pathway: %v", n.Warnings)
 	}
 }
 
@@ -157,7 +162,7 @@ func TestEntrancesIgnoreOrderNamesAndSplits(t *testing.T) {
 	base.Pathways = append(base.Pathways, pw("L3", ml(60, 30, 195, 5)), pw("L4", ml(60, 80, 200, 6)))
 	base.Entrances = []Entrance{
 		{Source: Source{File: "t.geojson", Index: 20}, Building: "C", Point: at(185, -10)},
-		{Source: Source{File: "t.geojson", Index: 21}, ID: "C-N", Building: "C", Point: at(150, 40)},
+		{Source: Source{File: "t.geojson", Index: 21}, ID: "C-N", Building: "C", Point: at(175, 30)},
 	}
 	same := func(s string) string { return s }
 	n := build(t, &base)
@@ -245,5 +250,57 @@ func TestEntranceAwayFromFootprint(t *testing.T) {
 	}
 	if len(got) != 1 || !strings.Contains(got[0], `entrance "FAR" of building "B" is 15.0 m from the building's footprint`) {
 		t.Errorf("warnings %q; want one, of FAR at 15.0 m", got)
+	}
+}
+
+// TestEntranceTooFar (tester 14 F4: a GIS join gave an entrance on a street 327 m away the
+// wrong building id, and the plan routed to it and billed none of the gap): an entrance
+// farther from its building's footprint than max_lateral_m is a problem of its "building"
+// property, naming the distance and the building whose wall it lies on, or that none is
+// near; nothing is built. One within max_lateral_m stays a warning (TestEntranceAwayFromFootprint).
+func TestEntranceTooFar(t *testing.T) {
+	t.Parallel()
+	c := Campus{
+		Buildings: []Building{box("HALL", 0, 0, 10), box("KILN", 200, 0, 10)},
+		Pathways:  []Pathway{pw("S", ml(-100, -20, 300, -20)), pw("L", ml(0, -20, 0, -10)), pw("M", ml(200, -20, 200, -10))},
+		Entrances: []Entrance{
+			{Source: Source{File: "t.geojson", Index: 3}, ID: "HALL-S", Building: "HALL", Point: at(0, -10)},
+			// On KILN's south wall, but named HALL's: the wrong building id.
+			{Source: Source{File: "t.geojson", Index: 4}, ID: "HALL-X", Building: "HALL", Point: at(205, -10)},
+			// 60 m north of the street, farther than 30 m from every footprint.
+			{Source: Source{File: "t.geojson", Index: 5}, ID: "HALL-Y", Building: "HALL", Point: at(100, 60)},
+		},
+	}
+	c.Buildings[1].Source.Index = 1
+	_, err := Build(&c, Options{})
+	var ps *input.Problems
+	if !errors.As(err, &ps) || len(ps.List) != 2 {
+		t.Fatalf("got %v, want 2 problems", err)
+	}
+	for i, want := range []string{
+		`t.geojson: feature #4 "HALL-X": property "building": entrance "HALL-X" is 195.6 m from the footprint of its building "HALL", farther than the longest lateral the design draws to a building (30 m, design: max_lateral_m): an entrance is where cable goes through its building's wall, and routes to this one would end 195.6 m short of it; it lies on the wall of building "KILN" (t.geojson feature #1): the wrong building id?`,
+		`t.geojson: feature #5 "HALL-Y": property "building": entrance "HALL-Y" is 103.2 m from the footprint of its building "HALL"`,
+		`; no building's footprint is within 30 m of it: a mistyped position, or the wrong building id?`,
+	} {
+		if got := ps.List[min(i, 1)].Error(); !strings.Contains(got, want) {
+			t.Errorf("problem %d:\ngot  %s\nwant it to contain %s", min(i, 1), got, want)
+		}
+	}
+	if !errors.Is(err, ErrBadValue) {
+		t.Errorf("%v: want ErrBadValue", err)
+	}
+
+	// With a longer max_lateral_m the bound follows: HALL-Y (103.2 m; 90 m east and 50 m north of its corner, as the test draws it) is then only warned of.
+	c.Entrances = []Entrance{c.Entrances[0], c.Entrances[2]}
+	n, err := Build(&c, Options{MaxLateralM: 120})
+	if err != nil {
+		t.Fatalf("max_lateral_m 120: %v", err)
+	}
+	warned := false
+	for _, w := range n.Warnings {
+		warned = warned || strings.Contains(w.Message, `entrance "HALL-Y" of building "HALL" is 103.2 m from the building's footprint`)
+	}
+	if !warned {
+		t.Errorf("max_lateral_m 120: no warning of HALL-Y in %+v", n.Warnings)
 	}
 }

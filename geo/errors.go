@@ -19,6 +19,9 @@ var (
 	ErrProjected        = errors.New("coordinates look projected")
 	ErrUnknownReference = errors.New("unknown reference")
 	ErrUnreachable      = errors.New("unreachable")
+	// ErrUnknownProperty is a property the reader does not read, spelt like one it does, whose
+	// default would be taken instead (a "riser" for riser_m): the unknown key of a campus.
+	ErrUnknownProperty = input.ErrUnknownKey
 	// ErrDuplicateKey is a member given twice in one JSON object: a property, or any other
 	// member at any level.
 	ErrDuplicateKey = input.ErrDuplicateKey

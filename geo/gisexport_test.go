@@ -1,6 +1,7 @@
 package geo
 
 import (
+	"errors"
 	"fmt"
 	"math/rand/v2"
 	"reflect"
@@ -9,6 +10,8 @@ import (
 
 	"github.com/paulmach/orb"
 	"github.com/paulmach/orb/planar"
+
+	"spanwright/geo/input"
 )
 
 // gisCampus is a FeatureCollection of features, each a JSON object without its "type".
@@ -232,6 +235,9 @@ func TestTradeWordHints(t *testing.T) {
 	pathway := func(key, v string) []byte {
 		return gisCampus(`"properties":{"id":"P","` + key + `":"` + v + `"},` + gisLine)
 	}
+	building := func(role string) []byte {
+		return gisCampus(`"properties":{"id":"B","role":"` + role + `"},` + gisSquare)
+	}
 	cases := []struct {
 		name string
 		data []byte
@@ -260,6 +266,12 @@ func TestTradeWordHints(t *testing.T) {
 		{"HDD", pathway("method", "HDD"), `got string "HDD"; did you mean "bore"?`},
 		{"grass", pathway("surface", "grass"), `got string "grass"; did you mean "turf"?`},
 		{"typo", pathway("type", "aerail"), `got string "aerail"; did you mean "aerial"?`},
+		// Tester 14 F17: MDF and IDF are the everyday words for the main and intermediate
+		// cross-connect of ANSI/TIA-568 (common practice, no published source).
+		{"idf", building("idf"), `got string "idf"; did you mean "ic"? ("idf" is the trade's other word for it)`},
+		{"MDF", building("MDF"), `got string "MDF"; did you mean "mc"? ("MDF" is the trade's other word for it)`},
+		{"campus distributor", building("Campus Distributor"), `got string "Campus Distributor"; did you mean "mc"?`},
+		{"hc", building("HC"), `got string "HC"; ` + hcWhy},
 		// A structure type said of a pathway: no structure value is offered for it.
 		{"manhole pathway", pathway("type", "manhole"), `got string "manhole"` + "\n"},
 	}
@@ -402,4 +414,92 @@ func TestEvenOddMatchesPlanar(t *testing.T) {
 			t.Fatalf("point %v: got %v, want %v", p, got, want)
 		}
 	}
+}
+
+// TestNearProperties (tester 14 F5): a property the reader does not read but that is spelt
+// like one it does (in other letter case, with other separators, or within input.Nearest's
+// edits) is answered with "did you mean …?": a problem when the property meant is absent and
+// its default changes the plan, a warning when it only names, or when the property meant is
+// given with another value. A GIS export's own attributes stay silent.
+func TestNearProperties(t *testing.T) {
+	t.Parallel()
+	sq := func(i int) string {
+		x := 10 + float64(i)*0.002
+		return fmt.Sprintf(`"geometry":{"type":"Polygon","coordinates":[[[%g,50],[%g,50],[%g,50.001],[%g,50.001],[%g,50]]]}`, x, x+0.001, x+0.001, x, x)
+	}
+	problems := func(fs ...string) []string {
+		t.Helper()
+		_, err := Parse("c.geojson", gisCampus(fs...))
+		var ps *input.Problems
+		if err != nil && !errors.As(err, &ps) {
+			t.Fatal(err)
+		}
+		var out []string
+		if ps != nil {
+			for _, p := range ps.List {
+				out = append(out, p.Error())
+			}
+		}
+		return out
+	}
+	warnings := func(fs ...string) []string {
+		t.Helper()
+		c, err := Parse("c.geojson", gisCampus(fs...))
+		if err != nil {
+			t.Fatal(err)
+		}
+		var out []string
+		for _, w := range c.warns {
+			out = append(out, w.src.Short(w.id)+": "+w.msg)
+		}
+		return out
+	}
+	check := func(name string, got []string, want ...string) {
+		t.Helper()
+		if strings.Join(got, "\n") != strings.Join(want, "\n") {
+			t.Errorf("%s:\ngot  %q\nwant %q", name, got, want)
+		}
+	}
+
+	check("riser", problems(`"properties":{"id":"ORCHARD","riser":40},`+sq(0)),
+		`c.geojson: feature #0 "ORCHARD": property "riser": not read: did you mean "riser_m"? Without it the building is planned with a riser of 15 m; rename the property (property names are matched exactly)`)
+	check("spare_duct", problems(`"properties":{"id":"P","spare_duct":0},`+gisLine),
+		`c.geojson: feature #0 "P": property "spare_duct": not read: did you mean "spare_ducts"? Without it the pathway is planned with 1 spare duct; rename the property (property names are matched exactly)`)
+	check("Spare_Ducts", problems(`"properties":{"id":"P","Spare_Ducts":0},`+gisLine),
+		`c.geojson: feature #0 "P": property "Spare_Ducts": not read: did you mean "spare_ducts"? Without it the pathway is planned with 1 spare duct; rename the property (property names are matched exactly)`)
+	check("TYPE", problems(`"properties":{"id":"P","TYPE":"tunnel"},`+gisLine),
+		`c.geojson: feature #0 "P": property "TYPE": not read: did you mean "type"? Without it the pathway is planned with type "duct"; rename the property (property names are matched exactly)`)
+	check("Kind", problems(`"properties":{"id":"E","Kind":"entrance","building":"B"},`+gisPoint),
+		`c.geojson: feature #0 "E": property "Kind": not read: did you mean "kind"? Without it the structure is planned with the kind its geometry gives (structure); rename the property (property names are matched exactly)`)
+	// The same slip on many features of a file: one problem, on the first.
+	var fs []string
+	for i := range 4 {
+		fs = append(fs, fmt.Sprintf(`"properties":{"id":"B%d","RISER_M":%d},`, i, 20+i)+sq(i))
+	}
+	check("grouped", problems(fs...),
+		`c.geojson: feature #0 "B0": property "RISER_M": not read (nor on 3 more buildings of this file): did you mean "riser_m"? Without it the building is planned with a riser of 15 m; rename the property (property names are matched exactly)`)
+	// A required property: the hint is in its problem, given once.
+	check("entrance Building", problems(`"properties":{"id":"B"},`+sq(0), `"properties":{"id":"E","kind":"entrance","Building":"B"},`+gisPoint),
+		`c.geojson: feature #1 "E": property "building": missing; an entrance names the id of its building; the feature gives "Building", which is not read: did you mean "building"? (property names are matched exactly)`)
+	check("ID", problems(`"properties":{"ID":"B"},`+sq(0)),
+		`c.geojson: feature #0 (no id): property "id": missing; every building needs a unique id; the feature gives "ID", which is not read: did you mean "id"? (property names are matched exactly)`)
+
+	// Warnings: a name, and a property meant that is given with another value; nothing
+	// when the values agree (an export that writes both), when the slip gives what the
+	// default is ("TYPE": "duct", "Kind": "building" on a polygon), or for the export's own
+	// attributes.
+	check("warnings", warnings(
+		`"properties":{"id":"B1","NAME":"Orchard Hall"},`+sq(0),
+		`"properties":{"id":"B2","riser_m":12,"Riser_m":14},`+sq(1),
+		`"properties":{"id":"B3","riser_m":12,"Riser_m":12,"Kind":"building"},`+sq(2),
+		`"id":7,"properties":{"ID":"B4"},`+sq(3),
+		`"id":"B5","properties":{"ID":"B5","OBJECTID":5,"fid":5,"Shape_Length":88.2,"Shape_Area":410.5,"TYPE":"lecture","address":"1 Quarry Lane","height_m":14,"floors":3,"rooms":40,"roof":"flat","duct":"none","state":"ok","names":null,"Role":""},`+sq(4),
+		`"properties":{"id":"P1","Type":"duct","TYPE":"duct","surface_type":"asphalt","owner":"estates","material":"PVC","ducts":4},`+gisLine,
+		`"properties":{"kind":"entrance","Id":"NORTH DOOR","building":"B1"},"geometry":{"type":"Point","coordinates":[10,50.0005]}`,
+	),
+		`#0 (B1): property "NAME" is not read: did you mean "name"? The building is planned with no name (property names are matched exactly)`,
+		`#1 (B2): property "Riser_m" is not read: did you mean "riser_m"? The building gives "riser_m" as 12, which is what is planned (property names are matched exactly)`,
+		`#3 (7): property "ID" is not read: did you mean "id"? The building gives "id" as "7", which is what is planned (property names are matched exactly)`,
+		`#6: property "Id" is not read: did you mean "id"? The entrance is planned with the id "E-" and its building's (property names are matched exactly)`,
+	)
 }

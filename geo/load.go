@@ -151,14 +151,19 @@ func LoadFSContext(ctx context.Context, fsys fs.FS, names []string) (*Campus, er
 		if err := ctx.Err(); err != nil {
 			return nil, err
 		}
-		data, err := input.ReadFS(fsys, n, input.Cap(0, input.DefaultDataMiB))
-		if err != nil {
-			r.l.fileErr(n, fmt.Errorf("read: %w", input.Cause(err)))
-			continue
-		}
-		r.l.parseFile(n, data)
+		r.ReadFS(fsys, n)
 	}
 	return r.Campus()
+}
+
+// ReadFS reads the GeoJSON file name from fsys, a file of at most input.DefaultDataMiB MiB.
+func (r *Reader) ReadFS(fsys fs.FS, name string) {
+	data, err := input.ReadFS(fsys, name, input.Cap(0, input.DefaultDataMiB))
+	if err != nil {
+		r.l.fileErr(name, fmt.Errorf("read: %w", input.Cause(err)))
+		return
+	}
+	r.l.parseFile(name, data)
 }
 
 // Reader reads one campus from any number of sources: GeoJSON files (ReadFile, Parse) and
@@ -229,7 +234,37 @@ func (r *Reader) AddFile(path string) { r.l.c.Files = append(r.l.c.Files, path) 
 
 // Problem reports a problem of a source as a whole (a file, a table): a reader of another
 // source calls it for what is not one feature's.
-func (r *Reader) Problem(p *input.Problem) { r.l.errs.Add(p) }
+func (r *Reader) Problem(p *input.Problem) {
+	r.l.lost = true
+	r.l.errs.Add(p)
+}
+
+// Partial is what a campus read with problems tells of its buildings, for checking what
+// names them (a plan's hub and links) in the same run (Reader.Partial).
+type Partial struct {
+	// Buildings are the buildings read, by id; their properties may have problems of their
+	// own.
+	Buildings []Building
+	// Unsure are the ids of the features that could not be read far enough to know their
+	// kind (a kind misspelt, no geometry): each may be a building, with any role.
+	Unsure []string
+}
+
+// PartialOf is the Partial of a campus read whole (whose network has problems).
+func PartialOf(c *Campus) *Partial { return &Partial{Buildings: c.Buildings} }
+
+// Partial returns, once Campus has returned problems, what they leave known of the
+// buildings: nil when a feature, file or table could not be read far enough to know its id
+// (it might be the building a plan names), or when the campus read without problems.
+func (r *Reader) Partial() *Partial {
+	l := r.l
+	if l.lost || l.errs.Len() == 0 || l.ctx.Err() != nil {
+		return nil
+	}
+	bs := slices.Clone(l.c.Buildings)
+	slices.SortStableFunc(bs, func(a, b Building) int { return strings.Compare(a.ID, b.ID) })
+	return &Partial{Buildings: bs, Unsure: slices.Sorted(slices.Values(l.unsure))}
+}
 
 // Campus checks the campus as a whole and returns it, or every problem found in any source
 // as an *input.Problems, or the context's error.
@@ -256,7 +291,18 @@ type loader struct {
 	blankIDs []idCand
 	// smallDucts are the pathways whose duct_mm is below SmallestDuctMM, in the order read
 	// (smallDuctWarnings).
-	smallDucts []smallDuct
+	smallDucts []unitSlip
+	// tallRisers are the buildings whose riser_m is above TallRiserM, in the order read
+	// (tallRiserWarnings).
+	tallRisers []unitSlip
+	// lost is set when a feature, file or table could not be read far enough to know its
+	// id (Reader.Partial); unsure are the ids of features read that far but not to a kind.
+	lost   bool
+	unsure []string
+	// near are the properties not read that are a slip for one read, in the order read
+	// (nearFindings); nearMemo remembers nearestName's answers (nearCache).
+	near     []nearUse
+	nearMemo map[string]map[string]string
 	// groups are the shared-risk groups pathways give, with the pathway, in the order read
 	// (groupWarnings).
 	groups []groupUse
@@ -344,6 +390,7 @@ func (l *loader) finishContext() (*Campus, error) {
 }
 
 func (l *loader) fileErr(file string, err error) {
+	l.lost = true
 	l.errs.Add(&input.Problem{File: file, Err: err})
 }
 
@@ -355,6 +402,7 @@ func (l *loader) finish() (*Campus, error) {
 			cmp.Compare(a.Point[1], b.Point[1]), strings.Compare(a.ID, b.ID))
 	})
 	read := len(l.errs.List)
+	l.nearFindings()
 	l.checkEntrances()
 	l.checkMC()
 	l.checkFar()
@@ -367,6 +415,7 @@ func (l *loader) finish() (*Campus, error) {
 	l.idWarnings()
 	l.blankIDWarnings()
 	l.smallDuctWarnings()
+	l.tallRiserWarnings()
 	l.groupWarnings()
 	l.blankWarnings()
 	c.warns = append(slices.Clone(l.warns), sameFootprints(c.Buildings)...)
@@ -608,6 +657,14 @@ type feature struct {
 	id    string
 	kind  string // set once check has decided it: blankDefaults names it
 	props map[string]any
+	// asked are the properties the reader read of the feature (prop), in the order read:
+	// what nearCheck matches the others against. hinted are those a missing problem's
+	// message named a slip for (nearNote).
+	asked, hinted []string
+	askedBuf      [16]string // asked's first array, in the feature's own allocation
+	// taken are the defaults taken for properties not given (defaulted), in the order read.
+	taken    []takenDefault
+	takenBuf [12]takenDefault
 }
 
 func (f *feature) add(prop string, err error) {
@@ -620,10 +677,12 @@ func (l *loader) parseFeature(src Source, raw json.RawMessage, dups []input.Dupl
 	v, err := decodeAny(raw)
 	obj, ok := v.(map[string]any)
 	if err != nil || !ok {
+		l.lost = true
 		f.add("", problemf(ErrWrongType, "want a Feature object, got %s", describe(v)))
 		return
 	}
 	if t, _ := obj["type"].(string); t != "Feature" {
+		l.lost = true
 		f.add("", problemf(ErrWrongType, `want "type" "Feature", got %s`, describe(obj["type"])))
 		return
 	}
@@ -633,6 +692,7 @@ func (l *loader) parseFeature(src Source, raw json.RawMessage, dups []input.Dupl
 	case map[string]any:
 		f.props = p
 	default:
+		l.lost = true
 		f.add("", problemf(ErrWrongType, `want "properties" to be an object, got %s`, describe(p)))
 		return
 	}
@@ -648,12 +708,17 @@ func (l *loader) parseFeature(src Source, raw json.RawMessage, dups []input.Dupl
 func (f *feature) check(member any, geom orb.Geometry, gerr error, tableKind string) {
 	l := f.l
 	idOK := f.readID(member)
+	if !idOK {
+		l.lost = true // its id, which a plan may name, is not known
+	}
 	kind, hasKind := f.str(PropKind)
 	switch {
 	case hasKind && !contains(kinds, kind):
+		f.unsure(idOK)
 		f.add(PropKind, badEnum(kinds, kind))
 		return
 	case hasKind && tableKind != "" && kind != tableKind:
+		f.unsure(idOK)
 		f.add(PropKind, problemf(ErrBadValue, "want %q in table %s, which holds %ss (or no kind), got %q",
 			tableKind, input.TableName(f.src.Table), tableKind, kind))
 		return
@@ -669,6 +734,7 @@ func (f *feature) check(member any, geom orb.Geometry, gerr error, tableKind str
 		case orb.Point:
 			kind = KindStructure
 		default:
+			f.unsure(idOK) // no kind: a building, perhaps
 			if gerr != nil {
 				f.add("geometry", gerr)
 				return
@@ -681,7 +747,7 @@ func (f *feature) check(member any, geom orb.Geometry, gerr error, tableKind str
 	if idOK {
 		if f.id == "" {
 			if kindNeedsID(kind) {
-				f.add(PropID, problemf(ErrMissingProperty, "missing%s; every %s needs a unique id", f.emptyNote(PropID), kind))
+				f.add(PropID, problemf(ErrMissingProperty, "missing%s; every %s needs a unique id%s", f.emptyNote(PropID), kind, f.nearNote(PropID)))
 			}
 		} else if kind == KindPathway && strings.Contains(f.id, "/") {
 			f.add(PropID, problemf(ErrBadValue, `want a pathway id without "/" (span ids use it), got %q`, f.id))
@@ -709,6 +775,15 @@ func (f *feature) check(member any, geom orb.Geometry, gerr error, tableKind str
 	case KindEntrance:
 		f.entrance(geom, gerr == nil)
 	}
+	f.nearCheck()
+}
+
+// unsure notes that f could not be read to a kind: its id, when idOK (else lost is set
+// already), may be a building's.
+func (f *feature) unsure(idOK bool) {
+	if idOK && f.id != "" {
+		f.l.unsure = append(f.l.unsure, f.id)
+	}
 }
 
 func kindNeedsID(kind string) bool { return kind != KindEntrance }
@@ -719,7 +794,7 @@ func kindNeedsID(kind string) bool { return kind != KindEntrance }
 // are given and differ, the property is the id and a warning says so. It reports false when
 // the id is given but unusable (already reported).
 func (f *feature) readID(member any) bool {
-	prop, propErr := idText(f.props[PropID])
+	prop, propErr := idText(f.prop(PropID))
 	mem, memErr := idText(member)
 	if propErr != nil {
 		f.add(PropID, problemf(ErrWrongType, "want a string or a whole number, got %s", describe(f.props[PropID])))
@@ -800,6 +875,9 @@ func (f *feature) building(g orb.Geometry, ok bool) {
 	name, _ := f.str(PropName)
 	role, _ := f.enum(PropRole, roles, "")
 	riser := f.num(PropRiserM, DefaultRiserM, riserRange)
+	if riser > TallRiserM {
+		f.l.tallRisers = append(f.l.tallRisers, unitSlip{f.src, f.id, riser})
+	}
 	transit := f.flag(PropTransit)
 	f.l.c.Buildings = append(f.l.c.Buildings, Building{
 		Source: f.src, ID: f.id, Name: name, Role: role, RiserM: riser, Transit: transit, Footprint: fp,
@@ -923,7 +1001,7 @@ func (f *feature) pathway(g orb.Geometry, ok bool) {
 	}
 	ductMM := f.num(PropDuctMM, DefaultDuctMM, ductRange)
 	if ductMM < SmallestDuctMM {
-		f.l.smallDucts = append(f.l.smallDucts, smallDuct{f.src, f.id, ductMM})
+		f.l.smallDucts = append(f.l.smallDucts, unitSlip{f.src, f.id, ductMM})
 	}
 	f.l.c.Pathways = append(f.l.c.Pathways, Pathway{
 		Source:     f.src,
@@ -969,12 +1047,12 @@ func (f *feature) structure(g orb.Geometry, ok bool) {
 func (f *feature) entrance(g orb.Geometry, ok bool) {
 	p := f.point(g, ok, KindEntrance)
 	// The building is named by its id, a string or a whole number as the id itself (idText).
-	b, err := idText(f.props[PropBuilding])
+	b, err := idText(f.prop(PropBuilding))
 	switch {
 	case err != nil:
 		f.add(PropBuilding, problemf(ErrWrongType, "want the id of a building (a string or a whole number), got %s", describe(f.props[PropBuilding])))
 	case b == "":
-		f.add(PropBuilding, problemf(ErrMissingProperty, "missing%s; an entrance names the id of its building", f.emptyNote(PropBuilding)))
+		f.add(PropBuilding, problemf(ErrMissingProperty, "missing%s; an entrance names the id of its building%s", f.emptyNote(PropBuilding), f.nearNote(PropBuilding)))
 	}
 	f.l.c.Entrances = append(f.l.c.Entrances, Entrance{Source: f.src, ID: f.id, Building: b, Point: p})
 }
@@ -986,7 +1064,8 @@ func (f *feature) entrance(g orb.Geometry, ok bool) {
 // A blank of blankDefaults, "" or a GeoJSON null (a database export's unknown), is noted
 // for blankWarnings.
 func (f *feature) given(key string) (any, bool) {
-	v, present := f.props[key]
+	v := f.prop(key)
+	_, present := f.props[key]
 	// A table's NULL is also how it holds a value absent (every row has every column), so
 	// only GeoJSON's null, written where the key could have been left out, is a blank.
 	if (v == "" || present && v == nil && f.src.Table == "") && blankDefaults[key] {
@@ -1080,6 +1159,7 @@ func (f *feature) str(key string) (string, bool) {
 func (f *feature) enum(key string, allowed []string, def string) (string, bool) {
 	v, ok := f.given(key)
 	if !ok {
+		f.defaulted(key, def)
 		return def, false
 	}
 	s, isStr := v.(string)
@@ -1173,6 +1253,12 @@ var tradeWords = map[string]string{
 	"in-service": StatusExisting, "active": StatusExisting, "as-built": StatusExisting,
 
 	"main-cross-connect": RoleMC, "intermediate-cross-connect": RoleIC,
+	// MDF and IDF (main and intermediate distribution frame) are the everyday words for the
+	// rooms ANSI/TIA-568 calls the main and intermediate cross-connect (common practice, no
+	// published source); ISO/IEC 11801 names the same levels campus and building distributor
+	// (from memory).
+	"mdf": RoleMC, "main-distribution-frame": RoleMC, "campus-distributor": RoleMC,
+	"idf": RoleIC, "intermediate-distribution-frame": RoleIC, "building-distributor": RoleIC,
 
 	"grass": SurfaceTurf, "lawn": SurfaceTurf,
 	"blacktop": SurfaceAsphalt, "tarmac": SurfaceAsphalt,
@@ -1194,8 +1280,17 @@ var notOneValue = map[string]struct {
 	"abandoned":    {[]string{StatusExisting, StatusProposed}, "a pathway that can carry no cable is left out of the campus"},
 	"retired":      {[]string{StatusExisting, StatusProposed}, "a pathway that can carry no cable is left out of the campus"},
 	"paved":        {[]string{SurfaceAsphalt, SurfaceConcrete}, `say which paving: "asphalt" or "concrete"`},
-	"paving":       {[]string{SurfaceAsphalt, SurfaceConcrete}, `say which paving: "asphalt" or "concrete"`},
+	// A horizontal cross-connect (ANSI/TIA-568; ISO/IEC 11801's floor distributor, from
+	// memory) serves its floor's outlets: the backbone ends there at a served building.
+	"hc":                       {[]string{RoleMC, RoleIC}, hcWhy},
+	"horizontal-cross-connect": {[]string{RoleMC, RoleIC}, hcWhy},
+	"floor-distributor":        {[]string{RoleMC, RoleIC}, hcWhy},
+	"telecommunications-room":  {[]string{RoleMC, RoleIC}, hcWhy},
+	"paving":                   {[]string{SurfaceAsphalt, SurfaceConcrete}, `say which paving: "asphalt" or "concrete"`},
 }
+
+// hcWhy is the hint for a building's role given as a horizontal cross-connect.
+const hcWhy = `a horizontal cross-connect (a telecommunications room) serves its own floor: a building the backbone only serves takes no role; "ic" is a building that other buildings' backbone cables come to, "mc" the campus's hub`
 
 // poleWhy is the hint for a structure typed as a pole: a pole is no structure in the ground
 // but the junction of aerial spans (Meeting.Open), or a riser pole beside a handhole.
@@ -1217,6 +1312,7 @@ func containsAll(list, of []string) bool {
 func (f *feature) flag(key string) bool {
 	v, ok := f.given(key)
 	if !ok {
+		f.defaulted(key, false)
 		return false
 	}
 	switch t := v.(type) {
@@ -1242,6 +1338,7 @@ func (f *feature) flag(key string) bool {
 func (f *feature) num(key string, def float64, r input.Range) float64 {
 	v, ok := f.given(key)
 	if !ok {
+		f.defaulted(key, def)
 		return def
 	}
 	n, isNum := v.(json.Number)
@@ -1603,8 +1700,8 @@ func multiPolygon(v any) (orb.MultiPolygon, error) {
 	return mp, nil
 }
 
-// blankDefaultText says what a property given as "" on a feature of kind is taken as: its
-// default, as the reading applies it.
+// blankDefaultText says what a property given as "" (or absent) on a feature of kind is taken
+// as: its default, as the reading applies it.
 func blankDefaultText(kind, key string) string {
 	switch key {
 	case PropType:
@@ -1620,12 +1717,28 @@ func blankDefaultText(kind, key string) string {
 		return fmt.Sprintf("ducts of %g mm", DefaultDuctMM)
 	case PropEMI:
 		return fmt.Sprintf("emi %q", EMINone)
-	case PropSurface:
-		return "no surface (new trench priced on the design's assumed surface)"
 	case PropMethod:
 		return fmt.Sprintf("method %q", MethodTrench)
 	case PropRiserM:
 		return fmt.Sprintf("a riser of %g m", DefaultRiserM)
+	case PropKind:
+		return fmt.Sprintf("the kind its geometry gives (%s)", kind)
+	case PropID:
+		return fmt.Sprintf("the id %q and its building's", EntrancePrefix)
+	}
+	if t, ok := absentTexts[key]; ok {
+		return t
 	}
 	return "its default"
+}
+
+// absentTexts are blankDefaultText's words for the properties whose default is said the same
+// way on every kind.
+var absentTexts = map[string]string{
+	PropSurface: "no surface (new trench priced on the design's assumed surface)",
+	PropRole:    "no role (a building the backbone serves)",
+	PropTransit: "no routes through it (transit false)",
+	PropPlenum:  "no plenum (plenum false)",
+	PropGroup:   "its own id as its shared-risk group",
+	PropName:    "no name",
 }

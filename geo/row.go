@@ -88,6 +88,7 @@ func (r *Reader) Row(row Row) {
 // FeatureProblem reports a problem of one row that is not about a property or its geometry
 // (its feature id is not read, say).
 func (r *Reader) FeatureProblem(src Source, err error) {
+	r.l.lost = true
 	f := &feature{l: r.l, src: src}
 	f.add("", err)
 }

@@ -296,6 +296,18 @@ func (c *Catalog) ParseRate(s string) (float64, error) {
 	return r, nil
 }
 
+// RateText is rate s as every output writes it, FormatRate's one form ("10G" for "10Gb",
+// "10 Gbps", "10g" or "10"), or s as given when it is no rate (ParseRate reports it); "" for
+// "" (tester 14 F8: links.csv echoed each spelling, so a sweep mixing them showed two rates).
+func RateText(s string) string {
+	m := rateRE.FindStringSubmatch(strings.TrimSpace(s))
+	if m == nil {
+		return s
+	}
+	r, _ := strconv.ParseFloat(m[1], 64)
+	return FormatRate(r)
+}
+
 // ParseRate reads a rate against the default catalog; see Catalog.ParseRate.
 func ParseRate(s string) (float64, error) { return defaultCatalog().ParseRate(s) }
 

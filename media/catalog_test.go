@@ -322,6 +322,24 @@ func TestParseRate(t *testing.T) {
 	}
 }
 
+// TestRateText (tester 14 F8): every spelling ParseRate reads is written in one form, so that
+// outputs (links.csv's rate column) and a sweep mixing spellings show one rate; what is no
+// rate is left as given for ParseRate to refuse. The project's rule, not a standard's.
+func TestRateText(t *testing.T) {
+	t.Parallel()
+	for in, want := range map[string]string{
+		"10G": "10G", "10Gb": "10G", "10 Gbps": "10G", "10g": "10G", "10": "10G", "10Gb/s": "10G", " 40G ": "40G",
+		"2.5G": "2.5G", "100 gbit/s": "100G", "fast": "fast", "": "", "-10G": "-10G",
+	} {
+		if got := RateText(in); got != want {
+			t.Errorf("RateText(%q) = %q, want %q", in, got, want)
+		}
+		if r, err := ParseRate(in); err == nil && RateText(in) != FormatRate(r) {
+			t.Errorf("RateText(%q) = %q, ParseRate reads %s", in, RateText(in), FormatRate(r))
+		}
+	}
+}
+
 func TestCatalogTable(t *testing.T) {
 	t.Parallel()
 	c := DefaultCatalog()
@@ -462,7 +480,7 @@ func TestCatalogParseErrors(t *testing.T) {
 		// ITU-T G.Sup39: the optical bands end at 1675 nm.
 		{"wavelength out of range", "wavelengths_nm: [850]", "wavelengths_nm: [85000]", `wavelengths_nm[0]: want a whole number of nm from 400 to 2000, got 85000`},
 		// YAML 1.2.2 §3.2.1.1: the keys of a mapping are unique.
-		{"duplicate nested key", "connections: {mated_pair_db: 0.75, splice_db: 0.3}", "connections: {mated_pair_db: 0.75, splice_db: 0.3, splice_db: 0.1}", `x.yaml:2:52: connections.splice_db: given twice, at line 2 and line 2`},
+		{"duplicate nested key", "connections: {mated_pair_db: 0.75, splice_db: 0.3}", "connections: {mated_pair_db: 0.75, splice_db: 0.3, splice_db: 0.1}", `x.yaml:2:52: connections.splice_db: given twice on line 2, at columns 36 and 52`},
 		{"duplicate top-level key", "connections: {mated_pair_db: 0.75, splice_db: 0.3}\n", "connections: {mated_pair_db: 0.75, splice_db: 0.3}\nconnections: {mated_pair_db: 0.1, splice_db: 0.1}\n", `x.yaml:3:1: connections: given twice, at line 2 and line 3; remove one`},
 	}
 	for _, tc := range cases {

@@ -157,7 +157,7 @@ func TestPriceBookBad(t *testing.T) {
 		{"huge tray", "splice_tray: {each: 38.00, strands: 12}", "splice_tray: {each: 38.00, strands: 9223372036854775807}", ErrBadValue, `splice_tray.strands: want an integer from 1 to 10000, got 9223372036854775807`},
 		{"huge enclosure", "fibre_enclosures: {24: 310.00,", "fibre_enclosures: {2400000: 310.00,", ErrBadValue, `fibre_enclosures.2400000: want an integer from 1 to 10000, got 2400000`},
 		// YAML 1.2.2 §3.2.1.1: the keys of a mapping are unique; yaml.v3 keeps the last.
-		{"duplicate price", "fibre_enclosures: {24: 310.00,", "fibre_enclosures: {24: 1.00, 24: 310.00,", ErrDuplicateKey, `x.yaml:58:30: fibre_enclosures.24: given twice, at line 58 and line 58; remove one`},
+		{"duplicate price", "fibre_enclosures: {24: 310.00,", "fibre_enclosures: {24: 1.00, 24: 310.00,", ErrDuplicateKey, `x.yaml:58:30: fibre_enclosures.24: given twice on line 58, at columns 20 and 30; remove one`},
 		{"duplicate section", "splice_tray: {each: 38.00, strands: 12}", "splice_tray: {each: 38.00, strands: 12}\nsplice_tray: {each: 1.00, strands: 12}", ErrDuplicateKey, `x.yaml:51:1: splice_tray: given twice, at line 50 and line 51; remove one`},
 	}
 	for _, tc := range cases {

@@ -106,6 +106,21 @@ func TestEveryInputProblemAtOnce(t *testing.T) {
 		book + `: price "added-duct": missing; add added_duct_per_m`,
 	}
 	out := filepath.Join(dir, "out")
+	planAndCheckRefused(t, plan, out, want)
+
+	// The plan right, the rest not: the campus and the price book still come out together.
+	editFile(t, dir, "plan.yaml", "  allow_outdoor_coper: true\n", "")
+	_, msg, code := run(t, "plan", plan, "--out", out)
+	if code != exitInvalid {
+		t.Fatalf("plan right: exit %d, want %d: %s", code, exitInvalid, msg)
+	}
+	wantLines(t, "plan right", msg, out, want[1:])
+}
+
+// planAndCheckRefused runs plan (into out) and check on the plan file, and checks that each
+// exits 2 with the lines of want, each once, and that plan wrote nothing.
+func planAndCheckRefused(t *testing.T, plan, out string, want []string) {
+	t.Helper()
 	_, msg, code := run(t, "plan", plan, "--out", out)
 	if code != exitInvalid {
 		t.Fatalf("plan: exit %d, want %d: %s", code, exitInvalid, msg)
@@ -116,14 +131,6 @@ func TestEveryInputProblemAtOnce(t *testing.T) {
 		t.Fatalf("check: exit %d, want %d: %s", code, exitInvalid, msg)
 	}
 	wantLines(t, "check", msg, "", want)
-
-	// The plan right, the rest not: the campus and the price book still come out together.
-	editFile(t, dir, "plan.yaml", "  allow_outdoor_coper: true\n", "")
-	_, msg, code = run(t, "plan", plan, "--out", out)
-	if code != exitInvalid {
-		t.Fatalf("plan right: exit %d, want %d: %s", code, exitInvalid, msg)
-	}
-	wantLines(t, "plan right", msg, out, want[1:])
 }
 
 // TestSkippedBuildingNeedsNoEntrance (tester 10, F9): a building no pathway reaches stops no
@@ -303,4 +310,50 @@ func TestSkippedCutOffBuilding(t *testing.T) {
 	if _, msg, code := run(t, "plan", plan, "--out", filepath.Join(t.TempDir(), "out")); code != exitOK {
 		t.Errorf("plan: exit %d, want 0: %s", code, msg)
 	}
+}
+
+// TestPlanNamesWithCampusProblems (tester 14 F8): a campus with a problem in one feature still
+// has its other buildings read, so the plan's hub and links are checked against them in the
+// same run, not after the campus is mended: "hub: hall" (with its hint) and a link to GHOST
+// come out beside the campus's problem. A feature whose kind could not be read may be the
+// building a link names, and that link is not blamed. The rule is the project's ("errors ...
+// all at once"), not a standard's.
+func TestPlanNamesWithCampusProblems(t *testing.T) {
+	dir := starterWith(t)
+	editFile(t, dir, "campus.geojson", `"id":"LAB",`, `"id":"LAB","riser":40,`)
+	editFile(t, dir, "plan.yaml", "hub: HALL ", "hub: hall ")
+	editFile(t, dir, "plan.yaml", "  - {to: MAST, rate: 1G}", "  - {to: MAST, rate: 1G}\n  - {to: GHOST}")
+	plan, campus := filepath.Join(dir, "plan.yaml"), filepath.Join(dir, "campus.geojson")
+	want := []string{
+		plan + `:9:6: hub: want the id of a building, got "hall", which no building has; did you mean "HALL" (` + campus + ` feature #0)? (letter case matters)`,
+		plan + `:19:10: links[2].to: want the id of a building, got "GHOST", which no building has`,
+		campus + `: feature #1 "LAB": property "riser": not read: did you mean "riser_m"? Without it the building is planned with a riser of 15 m; rename the property (property names are matched exactly)`,
+	}
+	out := filepath.Join(dir, "out")
+	planAndCheckRefused(t, plan, out, want)
+
+	// KILN's kind misspelt: it may be a building, so a link to it is no problem of the plan's.
+	editFile(t, dir, "campus.geojson", `"kind":"building","id":"KILN"`, `"kind":"buidling","id":"KILN"`)
+	editFile(t, dir, "plan.yaml", "  - {to: GHOST}", "  - {to: GHOST}\n  - {to: KILN}")
+	_, msg, code := run(t, "check", plan)
+	if code != exitInvalid {
+		t.Fatalf("check with KILN's kind misspelt: exit %d, want %d: %s", code, exitInvalid, msg)
+	}
+	wantLines(t, "KILN's kind misspelt", msg, "", append(want[:2:2], want[2],
+		campus+`: feature #4 "KILN": property "kind": want one of "building", "pathway", "structure", "entrance", got string "buidling"; did you mean "building"?`))
+
+	// A sweep's pre-flight likewise: the hub an axis names, beside the campus's problem.
+	editFile(t, dir, "campus.geojson", `"kind":"buidling","id":"KILN"`, `"kind":"building","id":"KILN"`)
+	editFile(t, dir, "plan.yaml", "hub: hall ", "hub: HALL ")
+	editFile(t, dir, "plan.yaml", "\n  - {to: GHOST}\n  - {to: KILN}", "")
+	sw := write(t, dir, "sweep.yaml", "base: plan.yaml\nvary:\n  hub: [HALL, LIBRARY]\n")
+	out = filepath.Join(dir, "sw-out")
+	_, msg, code = run(t, "sweep", sw, "--out", out)
+	if code != exitInvalid {
+		t.Fatalf("sweep: exit %d, want %d: %s", code, exitInvalid, msg)
+	}
+	wantLines(t, "sweep", msg, out, []string{
+		sw + `:3:15: vary: hub: want the id of a building, got "LIBRARY", which no building has`,
+		want[2],
+	})
 }

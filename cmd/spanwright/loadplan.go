@@ -42,11 +42,12 @@ func loadPlan(ctx context.Context, path string, o plan.LoadOptions) (*plan.Plan,
 // (catalog, rules, price book). The two do not depend on one another, so when either has
 // problems it reports those of both at once, with what can still be checked: the plan on
 // the campus and the media files (route.Check) when both were read but for prices the book
-// lacks, or the plan's rates on the catalog when the campus has problems. The prices the
+// lacks; when the campus has problems, the plan's hub and links on the buildings that did
+// read (site.CheckNames) and its rates on the catalog. The prices the
 // routes need depend on the campus (its proposed spans, entrances and junctions), and are
 // checked only once it reads. A stop or the machine's refusal to read comes back alone.
 func loadInputs(ctx context.Context, fsys fs.FS, p *plan.Plan) (*site.Site, *media.Engine, error) {
-	st, siteErr := site.Load(ctx, fsys, campusPaths(p), siteOptions(p))
+	st, read, siteErr := site.LoadRead(ctx, fsys, campusPaths(p), siteOptions(p))
 	if siteErr != nil && !isFileProblem(siteErr) {
 		return nil, nil, siteErr
 	}
@@ -60,6 +61,11 @@ func loadInputs(ctx context.Context, fsys fs.FS, p *plan.Plan) (*site.Site, *med
 	var all input.Problems
 	all.Add(siteErr)
 	all.AddNew(engErr)
+	if st == nil {
+		for _, err := range site.CheckNames(read, siteErr, p) {
+			all.AddNew(err)
+		}
+	}
 	switch {
 	case eng != nil && st != nil:
 		all.AddNew(route.Check(st, p, eng))

@@ -23,13 +23,12 @@ type Step struct {
 }
 
 // Duplicate is a key given twice in one object or mapping: the path to that object, the
-// key, the lines (1-based) of its first and its second occurrence, and the column (1-based)
-// of the second.
+// key, the lines and columns (1-based) of its first and its second occurrence.
 type Duplicate struct {
 	Path            []Step
 	Key             string
 	FirstLine, Line int
-	Col             int
+	FirstCol, Col   int
 }
 
 // Where is the path to the key itself, dotted: "design.slack_m", "features[3].properties.riser_m".
@@ -38,8 +37,12 @@ func (d Duplicate) Where() string {
 }
 
 // Err is the problem as an error wrapping ErrDuplicateKey: "given twice, at line 4 and
-// line 9; remove one".
+// line 9; remove one", or, both on one line (a GIS export writes a file, or each feature, as
+// one line), "given twice on line 1, at columns 812 and 830; remove one".
 func (d Duplicate) Err() error {
+	if d.FirstLine == d.Line {
+		return &problem{ErrDuplicateKey, fmt.Sprintf("given twice on line %d, at columns %d and %d; remove one", d.Line, d.FirstCol, d.Col)}
+	}
 	return &problem{ErrDuplicateKey, fmt.Sprintf("given twice, at line %d and line %d; remove one", d.FirstLine, d.Line)}
 }
 
@@ -76,17 +79,18 @@ func YAMLDuplicates(n *yaml.Node) []Duplicate {
 				walk(c, append(path, Step{Index: i}))
 			}
 		case yaml.MappingNode:
-			var first map[string]int
+			var first map[string]*yaml.Node
 			if len(n.Content) > 2 {
-				first = make(map[string]int, len(n.Content)/2)
+				first = make(map[string]*yaml.Node, len(n.Content)/2)
 			}
 			for i := 0; i+1 < len(n.Content); i += 2 {
 				k := n.Content[i]
 				if k.Kind == yaml.ScalarNode && k.Tag != "!!merge" && first != nil {
-					if line, dup := first[k.Value]; dup {
-						out = append(out, Duplicate{Path: append([]Step(nil), path...), Key: k.Value, FirstLine: line, Line: k.Line, Col: k.Column})
+					if f, dup := first[k.Value]; dup {
+						out = append(out, Duplicate{Path: append([]Step(nil), path...), Key: k.Value,
+							FirstLine: f.Line, FirstCol: f.Column, Line: k.Line, Col: k.Column})
 					} else {
-						first[k.Value] = k.Line
+						first[k.Value] = k
 					}
 				}
 				walk(n.Content[i+1], append(path, Step{Key: k.Value}))
@@ -303,7 +307,7 @@ func (s *jsonScan) check(depth int, name span) {
 
 func (s *jsonScan) dup(firstOff int, name span) {
 	s.dups = append(s.dups, Duplicate{Path: s.steps(), Key: s.text(name),
-		FirstLine: s.line(firstOff), Line: s.line(name.start), Col: s.col(name.start - 1)})
+		FirstLine: s.line(firstOff), FirstCol: s.col(firstOff - 1), Line: s.line(name.start), Col: s.col(name.start - 1)})
 }
 
 func (s *jsonScan) same(a, b span) bool {

@@ -53,6 +53,32 @@ func TestJSONDuplicatesBigObject(t *testing.T) {
 	}
 }
 
+// TestDuplicateOnOneLine (tester 14 F13): GIS tools often write a whole file on one line, where
+// "at line 1 and line 1" finds neither; both columns are named instead (1-based, in bytes, at
+// the name's opening quote), in JSON and in a YAML flow mapping alike.
+func TestDuplicateOnOneLine(t *testing.T) {
+	t.Parallel()
+	doc := `{"features":[{"properties":{"riser_m":30,"riser_m":31}}]}`
+	//      1234567890123456789012345678901234567890123456789
+	ds := JSONDuplicates([]byte(doc))
+	if len(ds) != 1 {
+		t.Fatalf("got %d duplicates, want 1", len(ds))
+	}
+	if d := ds[0]; d.FirstCol != 29 || d.Col != 42 {
+		t.Errorf("columns %d and %d, want 29 and 42", d.FirstCol, d.Col)
+	}
+	if msg := ds[0].Err().Error(); msg != "given twice on line 1, at columns 29 and 42; remove one" {
+		t.Errorf("message: %q", msg)
+	}
+	var n yaml.Node
+	if err := yaml.Unmarshal([]byte("a: 1\nb: {x: 1, x: 2}\n"), &n); err != nil {
+		t.Fatal(err)
+	}
+	if msg := YAMLDuplicates(&n)[0].Err().Error(); msg != "given twice on line 2, at columns 5 and 11; remove one" {
+		t.Errorf("YAML message: %q", msg)
+	}
+}
+
 func TestYAMLDuplicates(t *testing.T) {
 	t.Parallel()
 	// YAML 1.2.2 §3.2.1.1: the keys of a mapping are unique.

@@ -1,7 +1,9 @@
 package site
 
 import (
+	"errors"
 	"fmt"
+	"slices"
 
 	"spanwright/geo"
 	"spanwright/geo/input"
@@ -56,6 +58,43 @@ func (s *Site) Hub(p *plan.Plan) (string, error) {
 			hub, s.Campus.BuildingHint(hub)))
 	}
 	return hub, nil
+}
+
+// CheckNames checks what the plan names of a campus read with problems, campusErr (rd, the
+// buildings that did read: site.LoadRead): the hub and the buildings of the links, as Check
+// finds them (Hub, UnknownBuildings), so that a run reports them beside the campus's problems
+// and not one run later (tester 14 F8). An id of a feature read without a kind (rd.Unsure)
+// may be a building's, and is taken as one. A plan without a hub takes the campus's mc: that
+// none has role mc is said only when every feature's kind is known and no building's role
+// has a problem of its own (a misspelt "MC" is that building's problem, not the plan's). Nil
+// for a nil rd.
+func CheckNames(rd *geo.Partial, campusErr error, p *plan.Plan) []error {
+	if rd == nil {
+		return nil
+	}
+	s := &Site{Campus: &geo.Campus{Buildings: rd.Buildings}, building: make(map[string]*geo.Building, len(rd.Buildings)+len(rd.Unsure))}
+	for i := range rd.Buildings {
+		s.building[rd.Buildings[i].ID] = &rd.Buildings[i]
+	}
+	for _, id := range rd.Unsure {
+		if s.building[id] == nil {
+			s.building[id] = &geo.Building{ID: id}
+		}
+	}
+	var errs []error
+	if _, err := s.Hub(p); err != nil && (p.Hub != "" || len(rd.Unsure) == 0 && !roleProblem(campusErr)) {
+		errs = append(errs, err)
+	}
+	return append(errs, s.UnknownBuildings(p)...)
+}
+
+// roleProblem reports whether err holds a problem of a feature's role property.
+func roleProblem(err error) bool {
+	var ps *input.Problems
+	if !errors.As(err, &ps) {
+		return false
+	}
+	return slices.ContainsFunc(ps.List, func(q *input.Problem) bool { return q.Key == geo.PropRole })
 }
 
 // HubOverride is the warning when the plan's hub (p.Hub) is not the campus's building with

@@ -7,6 +7,7 @@ import (
 
 	"spanwright/geo"
 	"spanwright/geo/input"
+	"spanwright/media"
 	"spanwright/route/plan"
 )
 
@@ -15,8 +16,8 @@ import (
 type Link struct {
 	ID         string // From + "-" + To, with "#n" added when the pair repeats
 	From, To   string // building IDs: cross-connect end, served end
-	Rate       string // e.g. "10G"
-	FutureRate string // "" when none
+	Rate       string // e.g. "10G", as media.RateText writes it whatever the plan's spelling
+	FutureRate string // "" when none; as Rate
 	Strands    int    // required strands before growth
 	Growth     float64
 	Diverse    bool
@@ -87,7 +88,7 @@ func (s *Site) Links(p *plan.Plan, hub string) ([]Link, []string, []error) {
 	}
 	base := func(from, to string) Link {
 		d := p.Defaults
-		return Link{From: from, To: to, Rate: d.Rate, FutureRate: plan.FutureRate(d.FutureRate), Strands: d.Strands,
+		return Link{From: from, To: to, Rate: media.RateText(d.Rate), FutureRate: media.RateText(plan.FutureRate(d.FutureRate)), Strands: d.Strands,
 			Growth: d.Growth, Diverse: d.Redundancy == plan.RedundancyDiverse}
 	}
 
@@ -145,10 +146,10 @@ func (s *Site) Links(p *plan.Plan, hub string) ([]Link, []string, []error) {
 			l.From = ls.From
 		}
 		if ls.Rate != "" {
-			l.Rate = ls.Rate
+			l.Rate = media.RateText(ls.Rate)
 		}
 		if ls.FutureRate != "" {
-			l.FutureRate = plan.FutureRate(ls.FutureRate) // "none" overrides the defaults' future rate
+			l.FutureRate = media.RateText(plan.FutureRate(ls.FutureRate)) // "none" overrides the defaults' future rate
 		}
 		if ls.Strands > 0 {
 			l.Strands = ls.Strands

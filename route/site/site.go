@@ -74,24 +74,32 @@ type Options struct {
 	Database string
 }
 
-// read reads the campus from the files and the database: every feature through one
-// geo.Reader, so every source's features take the same checks.
-func read(ctx context.Context, files []string, opt Options) (*geo.Campus, error) {
+// read reads the campus from the files (from fsys when not nil: GeoJSON only) and the
+// database: every feature through one geo.Reader, so every source's features take the same
+// checks. With problems, it also returns the buildings read (geo.Reader.Partial).
+func read(ctx context.Context, fsys fs.FS, files []string, opt Options) (c *geo.Campus, partial *geo.Partial, err error) {
 	r := geo.NewReader(ctx)
 	for _, f := range files {
 		if err := ctx.Err(); err != nil {
-			return nil, err
+			return nil, nil, err
 		}
-		if gpkg.Is(f) {
+		switch {
+		case fsys != nil:
+			r.ReadFS(fsys, f)
+		case gpkg.Is(f):
 			gpkg.Read(ctx, r, f, opt.MaxInputBytes)
-		} else {
+		default:
 			r.ReadFile(f, opt.MaxInputBytes)
 		}
 	}
-	if opt.Database != "" && ctx.Err() == nil {
+	if opt.Database != "" && ctx.Err() == nil && fsys == nil {
 		postgis.Read(ctx, r, opt.Database)
 	}
-	return r.Campus()
+	c, err = r.Campus()
+	if err != nil {
+		return nil, r.Partial(), err
+	}
+	return c, nil, nil
 }
 
 // Load reads the campus and builds the network: the files (GeoJSON, or GeoPackage by the
@@ -99,21 +107,24 @@ func read(ctx context.Context, files []string, opt Options) (*geo.Campus, error)
 // instead of the disk (the embedded demo; GeoJSON only). When ctx is done, reading and
 // building stop and Load returns ctx's error.
 func Load(ctx context.Context, fsys fs.FS, files []string, opt Options) (*Site, error) {
-	var c *geo.Campus
-	var err error
-	if fsys != nil {
-		c, err = geo.LoadFSContext(ctx, fsys, files)
-	} else {
-		c, err = read(ctx, files, opt)
-	}
+	s, _, err := LoadRead(ctx, fsys, files, opt)
+	return s, err
+}
+
+// LoadRead is Load that, when the campus has problems, also returns the buildings it read
+// (nil when a feature or file could not be read far enough to know them: geo.Reader.Partial;
+// the whole campus when only building the network found problems), so that what names them,
+// the plan's hub and links, is checked in the same run (CheckNames; tester 14 F8).
+func LoadRead(ctx context.Context, fsys fs.FS, files []string, opt Options) (*Site, *geo.Partial, error) {
+	c, partial, err := read(ctx, fsys, files, opt)
 	if err != nil {
-		return nil, err
+		return nil, partial, err
 	}
 	net, err := geo.BuildContext(ctx, c, geo.Options{SnapM: opt.SnapM, MaxLateralM: opt.MaxLateralM})
 	if err != nil {
-		return nil, err
+		return nil, geo.PartialOf(c), err
 	}
-	return NewSite(c, net), nil
+	return NewSite(c, net), nil, nil
 }
 
 // NewSite wraps an already built network.

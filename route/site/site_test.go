@@ -122,6 +122,29 @@ func TestLinksOverrides(t *testing.T) {
 	}
 }
 
+// TestLinksRateSpellings (tester 14 F8): a rate written "10Gb", "10 Gbps" or "1g" is the
+// link's rate in one form (media.RateText), in the defaults and in a link entry, future
+// rates too, so every output shows one spelling per rate.
+func TestLinksRateSpellings(t *testing.T) {
+	t.Parallel()
+	s := lineCampus(t, []string{"A", "C", "D"}, []float64{0, 100, 200}, map[string]string{"A": "mc"}, "")
+	p := plan.Default
+	p.File = "plan.yaml"
+	p.Defaults.Rate, p.Defaults.FutureRate = "10Gb", "40 Gbps"
+	p.Links = []plan.LinkSpec{{Line: 1, To: "C", Rate: "1g", FutureRate: "10 Gb/s"}}
+	links, _, errs := s.Links(&p, "A")
+	if len(errs) > 0 {
+		t.Fatal(errs)
+	}
+	var got []string
+	for _, l := range links {
+		got = append(got, l.ID+" "+l.Rate+" "+l.FutureRate)
+	}
+	if want := "A-C 1G 10G|A-D 10G 40G"; strings.Join(got, "|") != want {
+		t.Errorf("got %q, want %s", got, want)
+	}
+}
+
 func TestLinksErrors(t *testing.T) {
 	t.Parallel()
 	s := lineCampus(t, []string{"A", "C"}, []float64{0, 100}, map[string]string{"A": "mc"}, "")

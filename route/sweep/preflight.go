@@ -12,6 +12,7 @@ import (
 	"spanwright/media"
 	"spanwright/route"
 	"spanwright/route/plan"
+	"spanwright/route/site"
 )
 
 // preflight checks the inputs of every scenario of the sweep (every shard's, so that the
@@ -167,9 +168,14 @@ func (r *runner) checkScenario(sc Scenario) ([]*input.Problem, *media.PriceBook)
 	if len(probs) > 0 {
 		return probs, nil // the loaders would only say it again
 	}
-	site, err := r.site(p)
+	l, err := r.load(p)
+	st := l.site
 	if err != nil {
 		probs = append(probs, r.blame(sc, planPath, "campus", err)...)
+		// The hub and links on the buildings that did read, in the same run (tester 14 F8).
+		for _, e := range site.CheckNames(l.read, err, p) {
+			probs = append(probs, r.blame(sc, planPath, "", e)...)
+		}
 	}
 	eng, err := r.engine(p)
 	if err != nil {
@@ -178,8 +184,8 @@ func (r *runner) checkScenario(sc Scenario) ([]*input.Problem, *media.PriceBook)
 		// that need an engine run on one that must never plan (plan.CheckEngine), as
 		// `spanwright plan` runs them.
 		if ce, cerr := plan.CheckEngine(p); ce != nil && cerr != nil {
-			if site != nil {
-				probs = append(probs, r.blame(sc, planPath, "", route.Check(site, p, ce))...)
+			if st != nil {
+				probs = append(probs, r.blame(sc, planPath, "", route.Check(st, p, ce))...)
 			} else {
 				for _, e := range p.CheckRates(ce.Catalog()) {
 					probs = append(probs, r.blame(sc, planPath, "", e)...)
@@ -194,7 +200,7 @@ func (r *runner) checkScenario(sc Scenario) ([]*input.Problem, *media.PriceBook)
 		}
 		return probs, eng.PriceBook()
 	}
-	return r.blame(sc, planPath, "", route.Check(site, p, eng)), eng.PriceBook()
+	return r.blame(sc, planPath, "", route.Check(st, p, eng)), eng.PriceBook()
 }
 
 // blame places the problems of err, found in scenario sc's plan (at planPath), as preflight

@@ -19,6 +19,7 @@ import (
 	lru "github.com/hashicorp/golang-lru/v2"
 	"go.yaml.in/yaml/v3"
 
+	"spanwright/geo"
 	"spanwright/geo/input"
 	"spanwright/media"
 	"spanwright/route"
@@ -340,7 +341,7 @@ type runner struct {
 	out     string // output folder, as given
 	absOut  string
 	protect []string
-	sites   onceCache[*site.Site]
+	sites   onceCache[loaded]
 	engines onceCache[*media.Engine]
 	hashes  onceCache[string]
 	// rebaseSweep and rebaseBase turn a file name relative to the sweep file's folder, or to
@@ -413,7 +414,7 @@ func newRunner(f *File, opt Options) (*runner, error) {
 	}
 	r := &runner{f: f, opt: opt, out: filepath.Clean(opt.Out), absOut: out, rebaseSweep: rebase(sweepDir), rebaseBase: rebase(baseDir)}
 	r.protect = []string{f.Path, f.Base}
-	r.sites = newOnceCache[*site.Site](siteCacheSize)
+	r.sites = newOnceCache[loaded](siteCacheSize)
 	r.engines = newOnceCache[*media.Engine](engineCacheSize)
 	r.hashes = newOnceCache[string](hashCacheSize)
 	return r, nil
@@ -1125,10 +1126,27 @@ func (r *runner) baseHub() string {
 // site returns the site of the plan's campus files and noding options, built once and
 // shared read-only.
 func (r *runner) site(p *plan.Plan) (*site.Site, error) {
+	l, err := r.load(p)
+	return l.site, err
+}
+
+// load returns the site of the plan's campus files as site does, and, when the campus has
+// problems, the buildings that did read (site.LoadRead), built once and shared read-only.
+func (r *runner) load(p *plan.Plan) (loaded, error) {
 	files, opt, key := siteOf(p)
 	// The site is shared by every scenario that reads it and kept with its error, so no one
 	// scenario's stop may end its building: it is built to the end.
-	return r.sites.get(key, func() (*site.Site, error) { return site.Load(context.Background(), nil, files, opt) })
+	return r.sites.get(key, func() (loaded, error) {
+		s, read, err := site.LoadRead(context.Background(), nil, files, opt)
+		return loaded{s, read}, err
+	})
+}
+
+// loaded is a site as the runner's cache keeps it: the site, or, for a campus with problems,
+// the buildings that did read (nil when not known).
+type loaded struct {
+	site *site.Site
+	read *geo.Partial
 }
 
 // siteOf is what site.Load reads for the plan: its campus files, the options, and a key that
