@@ -144,8 +144,10 @@ func TestTapMovesToJunction(t *testing.T) {
 	}
 }
 
-// buildOneLateral builds c with opt and returns the network, building B's only entrance, which
-// must be a counted lateral, and the junction it taps.
+// buildOneLateral builds c with opt and returns the network, the entrance building B's access
+// takes (the nearest of its counted laterals: Build gives a building with no other way in
+// one to every run of pathway within MaxLateralM, lateralDoors), and the junction it taps.
+// Every entrance of B must be a counted lateral.
 func buildOneLateral(t *testing.T, c *Campus, opt Options) (*Network, Entry, Junction) {
 	t.Helper()
 	n, err := Build(c, opt)
@@ -153,12 +155,14 @@ func buildOneLateral(t *testing.T, c *Campus, opt Options) (*Network, Entry, Jun
 		t.Fatal(err)
 	}
 	checkNetwork(t, n)
+	a, ok := n.AccessOf("B")
 	es := n.EntrancesOf("B")
-	if len(es) != 1 || es[0].Via != ViaLateral {
-		t.Fatalf("entrances of B %+v; want one counted lateral", es)
+	k := slices.IndexFunc(es, func(e Entry) bool { return e.Junction == a.Junction })
+	if !ok || a.Via != ViaLateral || k < 0 || slices.ContainsFunc(es, func(e Entry) bool { return e.Via != ViaLateral }) {
+		t.Fatalf("B's access %+v, entrances %+v; want counted laterals, the access among them", a, es)
 	}
-	j, _ := n.Junction(es[0].Junction)
-	return n, es[0], j
+	j, _ := n.Junction(es[k].Junction)
+	return n, es[k], j
 }
 
 // TestTapMovesAcrossJoints: the 2 m of TestTapMovesToJunction (tapMergeM, common practice, no
