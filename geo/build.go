@@ -653,11 +653,13 @@ type place struct {
 	t, d float64
 }
 
-// better orders candidate places by distance to the millimetre, then by pathway ID, line,
-// exact distance, segment and position, so that ties do not depend on input order, and along
-// one line the nearer place wins whatever the segment: a vertex drawn on a straight run
-// numbers the segments after it anew, and its place within a millimetre of the nearest must
-// not win on its segment's number.
+// better orders candidate places by distance to the millimetre, then, on two lines, an
+// existing pathway's before a proposed one's, then by position (west, then south, first),
+// and on one line by exact distance, segment and
+// position, so that ties depend neither on input order nor on the pathways' ids (renaming
+// a pathway must not move a tap), and along one line the nearer place wins whatever the
+// segment: a vertex drawn on a straight run numbers the segments after it anew, and its
+// place within a millimetre of the nearest must not win on its segment's number.
 func (b *builder) better(x, y place) bool {
 	if y.seg < 0 {
 		return true
@@ -665,12 +667,19 @@ func (b *builder) better(x, y place) bool {
 	if dx, dy := math.Round(x.d*1000), math.Round(y.d*1000); dx != dy {
 		return dx < dy
 	}
-	px, py := &b.parts[b.segs[x.seg].part], &b.parts[b.segs[y.seg].part]
-	if ix, iy := b.c.Pathways[px.pw].ID, b.c.Pathways[py.pw].ID; ix != iy {
-		return ix < iy
-	}
-	if px.k != py.k {
-		return px.k < py.k
+	if sx, sy := b.segs[x.seg], b.segs[y.seg]; sx.part != sy.part {
+		px, py := &b.parts[sx.part], &b.parts[sy.part]
+		if ex, ey := b.c.Pathways[px.pw].Status == StatusExisting, b.c.Pathways[py.pw].Status == StatusExisting; ex != ey {
+			return ex // a duct in the ground before one not yet built
+		}
+		ax, ay := lerp(px.xy[sx.i], px.xy[sx.i+1], x.t), lerp(py.xy[sy.i], py.xy[sy.i+1], y.t)
+		if ax.x != ay.x {
+			return ax.x < ay.x
+		}
+		if ax.y != ay.y {
+			return ax.y < ay.y
+		}
+		return sx.part < sy.part // the same point on two lines: either is the place
 	}
 	if x.d != y.d {
 		return x.d < y.d
