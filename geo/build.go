@@ -4,6 +4,7 @@ import (
 	"cmp"
 	"context"
 	"fmt"
+	"maps"
 	"math"
 	"slices"
 	"sort"
@@ -269,6 +270,7 @@ type builder struct {
 	parted  map[int][][]int   // building index → the members splitInside parted, per meeting point
 	ids     map[int]string    // root → junction ID
 	taps    []tapReq          // counted laterals' taps planAccess found, for placeTaps
+	runOf   []int             // per part: its run (runsOf), found at the first counted lateral
 	spanID  []string          // per piece: its span's ID (spanIDs)
 	// poleJoins holds the roots where two lines meet, as planAccess finds them (poleJoin).
 	poleJoins map[int]bool
@@ -651,11 +653,13 @@ type place struct {
 	t, d float64
 }
 
-// better orders candidate places by distance to the millimetre, then by pathway ID, line,
-// exact distance, segment and position, so that ties do not depend on input order, and along
-// one line the nearer place wins whatever the segment: a vertex drawn on a straight run
-// numbers the segments after it anew, and its place within a millimetre of the nearest must
-// not win on its segment's number.
+// better orders candidate places by distance to the millimetre, then, on two lines, an
+// existing pathway's before a proposed one's, then by position (west, then south, first),
+// and on one line by exact distance, segment and
+// position, so that ties depend neither on input order nor on the pathways' ids (renaming
+// a pathway must not move a tap), and along one line the nearer place wins whatever the
+// segment: a vertex drawn on a straight run numbers the segments after it anew, and its
+// place within a millimetre of the nearest must not win on its segment's number.
 func (b *builder) better(x, y place) bool {
 	if y.seg < 0 {
 		return true
@@ -663,12 +667,19 @@ func (b *builder) better(x, y place) bool {
 	if dx, dy := math.Round(x.d*1000), math.Round(y.d*1000); dx != dy {
 		return dx < dy
 	}
-	px, py := &b.parts[b.segs[x.seg].part], &b.parts[b.segs[y.seg].part]
-	if ix, iy := b.c.Pathways[px.pw].ID, b.c.Pathways[py.pw].ID; ix != iy {
-		return ix < iy
-	}
-	if px.k != py.k {
-		return px.k < py.k
+	if sx, sy := b.segs[x.seg], b.segs[y.seg]; sx.part != sy.part {
+		px, py := &b.parts[sx.part], &b.parts[sy.part]
+		if ex, ey := b.c.Pathways[px.pw].Status == StatusExisting, b.c.Pathways[py.pw].Status == StatusExisting; ex != ey {
+			return ex // a duct in the ground before one not yet built
+		}
+		ax, ay := lerp(px.xy[sx.i], px.xy[sx.i+1], x.t), lerp(py.xy[sy.i], py.xy[sy.i+1], y.t)
+		if ax.x != ay.x {
+			return ax.x < ay.x
+		}
+		if ax.y != ay.y {
+			return ax.y < ay.y
+		}
+		return sx.part < sy.part // the same point on two lines: either is the place
 	}
 	if x.d != y.d {
 		return x.d < y.d
@@ -785,26 +796,103 @@ func (b *builder) planAccess() {
 			continue
 		}
 		b.plans[bi] = accessPlan{via: ViaLateral, target: -1}
-		b.lateralDoor(bi, best, true)
-		// The nearest place on a pathway of the other status is a way in too, each a counted
-		// lateral of its own length: the optimizer chooses between them by cost, as between
-		// any entrances, so a proposed pathway drawn a little nearer than an existing duct
-		// (a second bank beside it) is an option the plan may leave unused, never the only
-		// way in (and the reverse: a proposed bank the plan opens anyway may be the cheaper tap).
-		other := StatusProposed
-		if b.statusOf(best.seg) == StatusProposed {
-			other = StatusExisting
-		}
-		if alt, _ := b.lateralPlace(f, other); alt.seg >= 0 && alt.d <= b.maxLat {
-			b.lateralDoor(bi, alt, false)
-		}
+		b.lateralDoors(bi, f, best)
 	}
 	b.placeTaps()
 }
 
-// statusOf is the status of the pathway of segment seg.
-func (b *builder) statusOf(seg int) string {
-	return b.c.Pathways[b.parts[b.segs[seg].part].pw].Status
+// lateralDoors adds the counted laterals of building bi (footprint f, no other way in): one
+// to each run of pathway (runsOf) that passes within MaxLateralM of the footprint, at the
+// place lateralPlace finds on that run, each a way in of its own priced by its length
+// (items.Entrance, as every counted lateral). The optimizer chooses among them by cost, as
+// among declared entrances. Not the nearest alone: a building standing between two streets
+// about as far from each would be joined to whichever a millimetre, or on a tie the
+// pathways' ids, made nearer, and its links routed from there (56 m of route against 266 m
+// in one campus). Every run within reach, with no margin over the nearest: MaxLateralM is
+// already the longest lateral the design allows, and a lateral some metres longer that
+// saves a detour along the ducts, or taps an existing duct rather than a proposed one, is a
+// choice a designer weighs by cost, which the optimizer does (the graph grows by about one
+// junction and two spans per extra way in; README "Performance" gives the cost in time).
+// A run is one place however it is split into pathways or lines, so a split adds none.
+// nearest is the place on all the pathways near (lateralPlace), within reach; it is the only
+// way in when no run's own place is within reach (a run's place about as near as its
+// nearest, lateralTieM, may lie just beyond). The access plan (Network.Access, the way in
+// the map draws) takes the nearest.
+func (b *builder) lateralDoors(bi int, f *footprint, nearest place) {
+	if b.runOf == nil {
+		b.runOf = b.runsOf()
+	}
+	all := b.buf
+	byRun := make(map[int][]int32)
+	for _, s := range all {
+		r := b.runOf[b.segs[s].part]
+		byRun[r] = append(byRun[r], s)
+	}
+	runs := slices.Sorted(maps.Keys(byRun))
+	var places []place
+	for _, r := range runs {
+		b.buf = byRun[r]
+		if pl, _ := b.lateralPlace(f, ""); pl.seg >= 0 && pl.d <= b.maxLat {
+			places = append(places, pl)
+		}
+	}
+	b.buf = all
+	if len(places) == 0 {
+		places = append(places, nearest)
+	}
+	// The access plan: the nearest to the millimetre, then the place nearest the footprint's
+	// centre, then the place west, then south, first (never the pathways' ids).
+	centre := lerp(f.lo, f.hi, 0.5)
+	xy := func(pl place) vec {
+		sr := b.segs[pl.seg]
+		p := &b.parts[sr.part]
+		return lerp(p.xy[sr.i], p.xy[sr.i+1], pl.t)
+	}
+	mm := func(m float64) float64 { return math.Round(m * 1000) }
+	first := 0
+	for i, pl := range places {
+		x, y := xy(pl), xy(places[first])
+		if c := cmp.Or(cmp.Compare(mm(pl.d), mm(places[first].d)), cmp.Compare(mm(x.dist(centre)), mm(y.dist(centre))),
+			cmp.Compare(x.x, y.x), cmp.Compare(x.y, y.y)); c < 0 {
+			first = i
+		}
+	}
+	for i, pl := range places {
+		b.lateralDoor(bi, pl, i == first)
+	}
+}
+
+// runsOf numbers the run each part (line) belongs to: the lowest index of the parts joined
+// to it end to end through plain joints (jointsAt.plain), so that a pathway split at a
+// vertex, or drawn as several pathways carrying the same ducts, is one run.
+func (b *builder) runsOf() []int {
+	up := make([]int, len(b.parts))
+	for i := range up {
+		up[i] = i
+	}
+	top := func(i int) int {
+		for up[i] != i {
+			up[i] = up[up[i]]
+			i = up[i]
+		}
+		return i
+	}
+	jt := b.holds()
+	for r, ps := range jt.ends {
+		if !jt.plain(r) {
+			continue
+		}
+		x, y := top(ps[0]), top(ps[1])
+		if x > y {
+			x, y = y, x
+		}
+		up[y] = x // the lower index is the run's number, whatever the order joined
+	}
+	out := make([]int, len(up))
+	for i := range out {
+		out[i] = top(i)
+	}
+	return out
 }
 
 // tapMergeM is how far apart along one run a counted lateral's tap and another place
@@ -842,24 +930,19 @@ func (b *builder) tapAt(bi, door int, plan bool, seg int, t float64, foot bool, 
 	return tapReq{bi: bi, door: door, plan: plan, seg: seg, t: t, at: lerp(p.xy[sr.i], p.xy[sr.i+1], t), foot: foot, from: from}
 }
 
-// placeTaps turns every counted lateral's place into the member that becomes its junction.
-// A place within tapMergeM along the run of a junction already there (a line's end, where
-// another pathway or a structure joins, another lateral's tap) moves to that junction, the
-// nearest; the run is followed across plain joints into the next piece (alongRun), so how a
-// street is split into pathways or lines moves no tap, when the lateral stays within MaxLateralM: one handhole, or the structure there,
-// serves both. Not to a junction on or within SnapM of a footprint (a way into a building).
-// Otherwise target places it. The taps are placed west to east, then south to north, so a
-// tap that moves to another's follows the places, not the features' order or ids.
-func (b *builder) placeTaps() {
-	reqs := b.taps
-	b.taps = nil
-	if len(reqs) == 0 {
-		return
-	}
-	slices.SortStableFunc(reqs, func(x, y tapReq) int {
-		return cmp.Or(cmp.Compare(x.at.x, y.at.x), cmp.Compare(x.at.y, y.at.y), cmp.Compare(x.bi, y.bi), cmp.Compare(x.door, y.door))
-	})
-	// What a junction holds before the taps: more than one line, a structure, an entrance.
+// jointsAt is what each junction holds, as placeTaps and runsOf read it: a part there
+// (parts, -1 when two or more), a declared entrance and the parts with a line end there. plain says a junction is a plain joint: two pieces
+// of one run meeting end to end with nothing else there (a pathway split at a vertex), which
+// branches nothing.
+type jointsAt struct {
+	parts    map[int]int
+	entrance map[int]bool
+	ends     map[int][]int
+	plain    func(r int) bool
+}
+
+// holds reads what every junction holds now (jointsAt).
+func (b *builder) holds() jointsAt {
 	parts := make(map[int]int, len(b.mem)/2) // root → a part there (-1 when two or more)
 	entrance := make(map[int]bool)
 	ends := make(map[int][]int) // root → the parts with a line end there
@@ -894,6 +977,28 @@ func (b *builder) placeTaps() {
 		pa, pb := &b.c.Pathways[b.parts[ps[0]].pw], &b.c.Pathways[b.parts[ps[1]].pw]
 		return sameDucts(pa.ductFacts(), pb.ductFacts())
 	}
+	return jointsAt{parts: parts, entrance: entrance, ends: ends, plain: plain}
+}
+
+// placeTaps turns every counted lateral's place into the member that becomes its junction.
+// A place within tapMergeM along the run of a junction already there (a line's end, where
+// another pathway or a structure joins, another lateral's tap) moves to that junction, the
+// nearest; the run is followed across plain joints into the next piece (alongRun), so how a
+// street is split into pathways or lines moves no tap, when the lateral stays within MaxLateralM: one handhole, or the structure there,
+// serves both. Not to a junction on or within SnapM of a footprint (a way into a building).
+// Otherwise target places it. The taps are placed west to east, then south to north, so a
+// tap that moves to another's follows the places, not the features' order or ids.
+func (b *builder) placeTaps() {
+	reqs := b.taps
+	b.taps = nil
+	if len(reqs) == 0 {
+		return
+	}
+	slices.SortStableFunc(reqs, func(x, y tapReq) int {
+		return cmp.Or(cmp.Compare(x.at.x, y.at.x), cmp.Compare(x.at.y, y.at.y), cmp.Compare(x.bi, y.bi), cmp.Compare(x.door, y.door))
+	})
+	jt := b.holds()
+	parts, entrance, ends, plain := jt.parts, jt.entrance, jt.ends, jt.plain
 	junction := func(m int) bool { // m becomes a junction whatever the taps (cut's worthy) or is a tap's
 		mm := b.mem[m]
 		r := b.find(m)

@@ -144,8 +144,10 @@ func TestTapMovesToJunction(t *testing.T) {
 	}
 }
 
-// buildOneLateral builds c with opt and returns the network, building B's only entrance, which
-// must be a counted lateral, and the junction it taps.
+// buildOneLateral builds c with opt and returns the network, the entrance building B's access
+// takes (the nearest of its counted laterals: Build gives a building with no other way in
+// one to every run of pathway within MaxLateralM, lateralDoors), and the junction it taps.
+// Every entrance of B must be a counted lateral.
 func buildOneLateral(t *testing.T, c *Campus, opt Options) (*Network, Entry, Junction) {
 	t.Helper()
 	n, err := Build(c, opt)
@@ -153,12 +155,14 @@ func buildOneLateral(t *testing.T, c *Campus, opt Options) (*Network, Entry, Jun
 		t.Fatal(err)
 	}
 	checkNetwork(t, n)
+	a, ok := n.AccessOf("B")
 	es := n.EntrancesOf("B")
-	if len(es) != 1 || es[0].Via != ViaLateral {
-		t.Fatalf("entrances of B %+v; want one counted lateral", es)
+	k := slices.IndexFunc(es, func(e Entry) bool { return e.Junction == a.Junction })
+	if !ok || a.Via != ViaLateral || k < 0 || slices.ContainsFunc(es, func(e Entry) bool { return e.Via != ViaLateral }) {
+		t.Fatalf("B's access %+v, entrances %+v; want counted laterals, the access among them", a, es)
 	}
-	j, _ := n.Junction(es[0].Junction)
-	return n, es[0], j
+	j, _ := n.Junction(es[k].Junction)
+	return n, es[k], j
 }
 
 // TestTapMovesAcrossJoints: the 2 m of TestTapMovesToJunction (tapMergeM, common practice, no
@@ -313,6 +317,60 @@ func TestTapSnapsToBendAcrossJoint(t *testing.T) {
 		_, _, j := buildOneLateral(t, &c, Options{})
 		if d := DistanceM(j.Point, at(0.3, 0)); d > 0.01 {
 			t.Errorf("%s: B taps at %v, %.2f m from the bend; want the bend", tc.name, j.Point, d)
+		}
+	}
+}
+
+// TestLateralEveryRunWithinReach: building B (20 m square, centre (0, 0)) has no pathway end
+// and no entrance; duct N runs 28 m north of its wall and duct S 28 m south, drawn as two
+// pathways meeting end to end at x = 3 (one run); duct F runs 35 m east, beyond max_lateral_m
+// (30 m). B gets a counted lateral to N and one to S, 28 m each, and none to F; S's split adds
+// none. Renaming N and S to each other's ids gives the same entrances and the same access;
+// moving B 1 mm north or south keeps both laterals (one 1 mm shorter). The project brief: a
+// plan must not change with id names or a millimetre (before, B was offered the nearer duct
+// only, on a tie the one with the lower id). The 28 m and 35 m are invented for the test.
+func TestLateralEveryRunWithinReach(t *testing.T) {
+	t.Parallel()
+	campus := func(dyM float64, north, south1, south2 string) *Campus {
+		return &Campus{Buildings: []Building{box("B", 0, dyM, 10)}, Pathways: []Pathway{
+			pw(north, ml(-100, 38, 100, 38)),
+			pw(south1, ml(-100, -38, 3, -38)), pw(south2, ml(3, -38, 100, -38)),
+			pw("F", ml(45, -100, 45, 100)),
+		}}
+	}
+	n := build(t, campus(0, "N", "S1", "S2"))
+	es := entryPoints(t, n, "B")
+	if len(es) != 2 {
+		t.Fatalf("B's entrances %+v; want two counted laterals, to N and to S", es)
+	}
+	for _, e := range es {
+		if e.via != ViaLateral || math.Abs(float64(e.lateralC)-2800) > 1 {
+			t.Errorf("B's entrance %+v; want a counted lateral of 28 m", e)
+		}
+	}
+	access := func(n *Network) orb.Point {
+		a, _ := n.AccessOf("B")
+		j, _ := n.Junction(a.Junction)
+		return j.Point
+	}
+	renamed := build(t, campus(0, "S1", "N", "S2"))
+	if got := entryPoints(t, renamed, "B"); !slices.Equal(got, es) {
+		t.Errorf("ids renamed: B's entrances %+v, want %+v", got, es)
+	}
+	if got, want := access(renamed), access(n); got != want {
+		t.Errorf("ids renamed: B's access at %v, want %v", got, want)
+	}
+	const mm = 1e-3
+	for _, dy := range []float64{mm, -mm} {
+		got := entryPoints(t, build(t, campus(dy, "N", "S1", "S2")), "B")
+		if len(got) != 2 {
+			t.Errorf("B moved %+.0f mm north: entrances %+v, want two", dy/mm, got)
+			continue
+		}
+		for i := range got {
+			if d := DistanceM(got[i].at, es[i].at); got[i].via != ViaLateral || d > 2*mm || math.Abs(float64(got[i].lateralC-es[i].lateralC)) > 1 {
+				t.Errorf("B moved %+.0f mm north: entrance %+v, want %+v", dy/mm, got[i], es[i])
+			}
 		}
 	}
 }

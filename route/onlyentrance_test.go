@@ -157,10 +157,13 @@ func TestDiverseOneEntranceDrawnLateral(t *testing.T) {
 // TestDiverseOneEntranceSuggests: with a duct M looping 15 m north of B (from S at x = 100 up,
 // along y = 45 and down to S at x = 200), the SPOF note names M as where a second entrance
 // would go, at its distance: within design.max_lateral_m (30 m), a declared entrance facing
-// it gets a counted lateral (Build). Not built: B keeps its one entrance.
+// it gets a counted lateral (Build). Not built: B keeps its one entrance. B is entered here by
+// a lateral drawn from S to its wall, LB: a building with no way in drawn is offered a counted
+// lateral to every pathway within design.max_lateral_m (M too), so there M is a way in
+// already and nothing is left to suggest.
 func TestDiverseOneEntranceSuggests(t *testing.T) {
 	t.Parallel()
-	r, err := testplan.PullSolveJSON(t, oneEntranceCampus(duct("S", 0, 0, 50, 0, 300, 0), duct("M", 100, 0, 100, 45, 200, 45, 200, 0)), diverse("B"))
+	r, err := testplan.PullSolveJSON(t, oneEntranceCampus(duct("S", 0, 0, 50, 0, 150, 0, 300, 0), duct("M", 100, 0, 100, 45, 200, 45, 200, 0), duct("LB", 150, 0, 150, 10)), diverse("B"))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -168,12 +171,15 @@ func TestDiverseOneEntranceSuggests(t *testing.T) {
 		if l.Link.To != "B" || l.Name != routing.LegDiverse {
 			continue
 		}
-		if !l.Feasible || l.ReasonCode != routing.CodeSharedPt || l.EntranceTo != "B:1" {
-			t.Fatalf("diverse leg feasible %v code %q entrance %s: %s", l.Feasible, l.ReasonCode, l.EntranceTo, l.Reason)
+		// LB is a span both legs must use (as LC in TestDiverseOneEntranceDrawnLateral).
+		if l.Feasible || l.ReasonCode != routing.CodeNoDiverse {
+			t.Fatalf("diverse leg feasible %v code %q: %s", l.Feasible, l.ReasonCode, l.Reason)
 		}
-		want := "a second entrance to building B facing pathway M, 15.0 m from its footprint, would make the link diverse (declared there, within design.max_lateral_m 30 m, it gets a lateral the plan lays and prices)"
-		if !strings.Contains(l.Choice, want) {
-			t.Errorf("note lacks %q: %s", want, l.Choice)
+		for _, want := range []string{"every route must use building B's only entrance B:1 and its one way on, span LB (pathway LB)",
+			"a second entrance to building B facing pathway M, 15.0 m from its footprint, would make the link diverse (declared there, within design.max_lateral_m 30 m, it gets a lateral the plan lays and prices)"} {
+			if !strings.Contains(l.Reason, want) {
+				t.Errorf("reason lacks %q: %s", want, l.Reason)
+			}
 		}
 		return
 	}

@@ -5,7 +5,6 @@ import (
 	"maps"
 	"math"
 	"math/rand/v2"
-	"slices"
 	"strings"
 	"testing"
 
@@ -22,34 +21,8 @@ func TestRenameIDs(t *testing.T) {
 	each(t, func(t *testing.T, seed uint64, c *campusgen.Campus, sc scenario) {
 		_, base := outputs(t, sc)
 		for trial := range 3 {
-			r := rand.New(rand.NewPCG(seed, 100+uint64(trial)))
-			names := slices.Clone(c.IDs)
-			perm := r.Perm(len(names))
-			rename := map[string]string{}
-			for i, id := range c.IDs {
-				rename[id] = fmt.Sprintf("X%04d", perm[i])
-			}
-			sc2 := rewrite(sc, c, func(fs []campusgen.Feature) []campusgen.Feature {
-				for _, f := range fs {
-					for k, p := range f.Props {
-						if s, ok := p.Value.(string); ok && (p.Key == "id" || p.Key == "group" || p.Key == "building") {
-							f.Props[k].Value = rename[s]
-						}
-					}
-				}
-				return fs
-			})
-			plan := sc.plan
-			for _, id := range c.IDs {
-				plan = strings.ReplaceAll(plan, " "+id+"\n", " "+rename[id]+"\n")
-				plan = strings.ReplaceAll(plan, "to: "+id+",", "to: "+rename[id]+",")
-			}
-			sc2.plan = plan
+			sc2, back := renameAll(sc, c, rand.New(rand.NewPCG(seed, 100+uint64(trial))))
 			_, res := outputs(t, sc2)
-			back := map[string]string{}
-			for id, to := range rename {
-				back[to] = id
-			}
 			// Every leg takes the same pathways and medium, named back.
 			want := map[string]string{}
 			for i := range base.Legs {
@@ -94,6 +67,38 @@ func TestRenameIDs(t *testing.T) {
 			}
 		}
 	})
+}
+
+// renameAll renames every building, pathway and structure id of c (the hub, links and
+// shared-risk groups with them) to X and a number in a random order, and returns the
+// scenario and the names back.
+func renameAll(sc scenario, c *campusgen.Campus, r *rand.Rand) (scenario, map[string]string) {
+	perm := r.Perm(len(c.IDs))
+	rename := map[string]string{}
+	for i, id := range c.IDs {
+		rename[id] = fmt.Sprintf("X%04d", perm[i])
+	}
+	sc2 := rewrite(sc, c, func(fs []campusgen.Feature) []campusgen.Feature {
+		for _, f := range fs {
+			for k, p := range f.Props {
+				if s, ok := p.Value.(string); ok && (p.Key == "id" || p.Key == "group" || p.Key == "building") {
+					f.Props[k].Value = rename[s]
+				}
+			}
+		}
+		return fs
+	})
+	plan := sc.plan
+	for _, id := range c.IDs {
+		plan = strings.ReplaceAll(plan, " "+id+"\n", " "+rename[id]+"\n")
+		plan = strings.ReplaceAll(plan, "to: "+id+",", "to: "+rename[id]+",")
+	}
+	sc2.plan = plan
+	back := map[string]string{}
+	for id, to := range rename {
+		back[to] = id
+	}
+	return sc2, back
 }
 
 // ductDigest is what each duct of each span holds: its cables' legs (from>to/name) in the order

@@ -57,7 +57,25 @@ type Options struct {
 	// same street both entrances would share its trench), and one into every cross-connect
 	// that drew none. False keeps the default campuses as they were drawn.
 	DiverseEntrances bool
+
+	// BetweenStreets adds this many annex buildings (ids Q00, Q01, ...) east of the grid,
+	// each standing midway between two straight parallel ducts of its own, 28 m from each
+	// wall, with no lateral drawn: a building two streets reach at the same distance, so
+	// that only how the plan chooses between them decides which way it is joined. The two
+	// ducts of annex k leave the east edge of the grid from two neighbouring junctions (rows
+	// 2k and 2k+1), so routes through them differ in length. Each needs two rows of the grid:
+	// fewer are added on a small grid. Zero keeps the campuses as they were drawn.
+	BetweenStreets int
 }
+
+// Annex geometry (BetweenStreets), in metres: every number invented for testing.
+const (
+	annexGapM   = 28.0  // from each wall to its duct
+	annexHalfM  = 10.0  // half the footprint's side
+	annexEastM  = 100.0 // from the grid's east edge to where the ducts run straight
+	annexLaneM  = 120.0 // the straight run of each duct
+	annexRiserM = 10.0
+)
 
 const (
 	lat0, lon0 = 46.2, 7.1 // an invented place; only the shape of the earth matters
@@ -243,9 +261,9 @@ func Generate(seed uint64, opt Options) *Campus {
 	cell := 2 * step
 	key := func(x, y float64) [2]int { return [2]int{int(math.Floor(x / cell)), int(math.Floor(y / cell))} }
 	segs := map[[2]int][][2][2]float64{}
-	for _, st := range streets {
-		for k := 1; k < len(st.pts); k++ {
-			a, b := st.pts[k-1], st.pts[k]
+	addSegs := func(pts [][2]float64) {
+		for k := 1; k < len(pts); k++ {
+			a, b := pts[k-1], pts[k]
 			lo, hi := key(min(a[0], b[0]), min(a[1], b[1])), key(max(a[0], b[0]), max(a[1], b[1]))
 			for i := lo[0]; i <= hi[0]; i++ {
 				for j := lo[1]; j <= hi[1]; j++ {
@@ -253,6 +271,9 @@ func Generate(seed uint64, opt Options) *Campus {
 				}
 			}
 		}
+	}
+	for _, st := range streets {
+		addSegs(st.pts)
 	}
 	near := map[[2]int][]int{} // index into done
 	clear := func(cx, cy, half float64) bool {
@@ -275,6 +296,29 @@ func Generate(seed uint64, opt Options) *Campus {
 			}
 		}
 		return true
+	}
+	// The annexes (BetweenStreets), before the other buildings so that those keep clear of
+	// them and of their ducts.
+	for k := 0; k < opt.BetweenStreets && 2*k+1 < g; k++ {
+		south, north := node[g-1][2*k], node[g-1][2*k+1]
+		y := (south[1] + north[1]) / 2
+		x0 := max(south[0], north[0]) + annexEastM
+		gap := annexGapM + annexHalfM
+		for _, lane := range []struct {
+			from [2]float64
+			y    float64
+			side string
+		}{{south, y - gap, "S"}, {north, y + gap, "N"}} {
+			pts := [][2]float64{lane.from, {x0, lane.y}, {x0 + annexLaneM, lane.y}}
+			add(lineFeature(pts, []Prop{{"kind", "pathway"}, {"id", fmt.Sprintf("Q%02d-%s", k, lane.side)}, {"spare_ducts", 2}, {"duct_mm", 100}}))
+			addSegs(pts)
+		}
+		cx, cy, half := x0+annexLaneM/2, y, annexHalfM
+		near[key(cx, cy)] = append(near[key(cx, cy)], len(done))
+		done = append(done, placed{cx, cy, half})
+		add(Feature{Geometry: "Polygon", Coords: [][][2]float64{{ll(cx-half, cy-half), ll(cx+half, cy-half),
+			ll(cx+half, cy+half), ll(cx-half, cy+half), ll(cx-half, cy-half)}},
+			Props: []Prop{{"kind", "building"}, {"id", fmt.Sprintf("Q%02d", k)}, {"name", "Annex " + strconv.Itoa(k)}, {"riser_m", annexRiserM}}})
 	}
 	b := 0
 	for _, si := range order {
