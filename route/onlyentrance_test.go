@@ -6,6 +6,7 @@ import (
 
 	"spanwright/route/internal/testplan"
 	"spanwright/route/internal/testsite"
+	"spanwright/route/plan"
 	"spanwright/route/routing"
 )
 
@@ -184,4 +185,78 @@ func TestDiverseOneEntranceSuggests(t *testing.T) {
 		return
 	}
 	t.Fatal("no diverse leg to B")
+}
+
+// TestDiverseCountedLaterals: B has no way in drawn, S runs 20 m south of it and a duct M
+// loops 15 m north of it off S (from x = 100 up, along y = 45, down to x = 200). B gets a
+// counted lateral to each (Build, every pathway within design.max_lateral_m). The legs leave
+// by the two laterals: one along S from its tap, the other along M and back onto S beyond
+// x = 200 or before x = 100. They share no stretch of S (its group is parted at the tap of a
+// counted lateral), so the link is diverse and both legs are planned and priced, not left
+// NO-DIVERSE because both use S somewhere (physically diverse pathways, ANSI/TIA-569 (from
+// memory); parting a duct's risk at a tap: common practice, no published source).
+func TestDiverseCountedLaterals(t *testing.T) {
+	t.Parallel()
+	r, err := testplan.PullSolveJSON(t, oneEntranceCampus(duct("S", 0, 0, 50, 0, 150, 0, 300, 0), duct("M", 100, 0, 100, 45, 200, 45, 200, 0)), diverse("B"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var legs []routing.Leg
+	for _, l := range r.Legs {
+		if l.Link.To == "B" {
+			legs = append(legs, l)
+		}
+	}
+	if len(legs) != 2 {
+		t.Fatalf("A-B legs: %+v", legs)
+	}
+	for _, l := range legs {
+		if !l.Feasible || l.Cost.TotalCents() <= 0 {
+			t.Fatalf("%s leg: feasible %v, code %q, cost %d cents, reason %q; want planned and priced", l.Name, l.Feasible, l.ReasonCode, l.Cost.TotalCents(), l.Reason)
+		}
+	}
+	if legs[0].EntranceTo == legs[1].EntranceTo {
+		t.Errorf("both legs enter B by %q, want two counted laterals", legs[0].EntranceTo)
+	}
+}
+
+// crossingAtTapCampus (a reviewer's, invented place): ducts D1 (west-east) and PB (a loop from
+// the hub's south side over D1 to FEN's north side) cross at one junction with no structure,
+// where the counted lateral of a third building, COB, taps D1. PC, a longer duct round the
+// south, reaches FEN from the west.
+const crossingAtTapCampus = `{"type": "FeatureCollection", "features": [{"type": "Feature", "properties": {"kind": "building", "id": "HUB", "name": "Larchwick Hall", "role": "mc"}, "geometry": {"type": "Polygon", "coordinates": [[[-1.0001459, 51.9999099], [-0.9998541, 51.9999099], [-0.9998541, 52.0000901], [-1.0001459, 52.0000901], [-1.0001459, 51.9999099]]]}}, {"type": "Feature", "properties": {"kind": "building", "id": "FEN", "name": "Fenmoor Lab"}, "geometry": {"type": "Polygon", "coordinates": [[[-0.9943099, 51.9999099], [-0.9940181, 51.9999099], [-0.9940181, 52.0000901], [-0.9943099, 52.0000901], [-0.9943099, 51.9999099]]]}}, {"type": "Feature", "properties": {"kind": "building", "id": "COB", "name": "Cobble Store"}, "geometry": {"type": "Polygon", "coordinates": [[[-0.9970674, 52.000009], [-0.9966443, 52.0000901], [-0.9967172, 52.0002703], [-0.9969361, 52.0002523], [-0.9970674, 52.000009]]]}}, {"type": "Feature", "properties": {"kind": "pathway", "id": "D1", "type": "duct"}, "geometry": {"type": "LineString", "coordinates": [[-0.9998541, 52.0], [-0.997082, 52.0], [-0.9943099, 52.0]]}}, {"type": "Feature", "properties": {"kind": "pathway", "id": "PB", "type": "duct"}, "geometry": {"type": "LineString", "coordinates": [[-1.0, 51.9999099], [-1.0, 51.999099], [-0.997082, 51.999099], [-0.997082, 52.0], [-0.997082, 52.000901], [-0.994164, 52.000901], [-0.994164, 52.0000901]]}}, {"type": "Feature", "properties": {"kind": "pathway", "id": "PC", "type": "duct"}, "geometry": {"type": "LineString", "coordinates": [[-1.0001459, 52.0], [-1.001459, 52.0], [-1.001459, 51.997297], [-0.994164, 51.997297], [-0.994164, 51.9999099]]}}]}`
+
+// TestDiverseAvoidsCrossingAtTap: the diverse link HUB-FEN takes D1 and PC, not D1 and PB,
+// which cross D1 at COB's tap with no structure (one dig there cuts both); COB's own diverse
+// link is still planned, with its one entrance named as its single point of failure. Before,
+// a crossing that was also an entrance was not a place to the optimizer (review 19 F1), and
+// the plan named the crossing as HUB-FEN's single point of failure (physically diverse
+// pathways, ANSI/TIA-569 (from memory); a crossing as a shared point: common practice, no
+// published source).
+func TestDiverseAvoidsCrossingAtTap(t *testing.T) {
+	t.Parallel()
+	r, err := testplan.PullSolveJSON(t, crossingAtTapCampus, func(p *plan.Plan) {
+		p.Hub = "HUB"
+		diverse("FEN")(p)
+		diverse("COB")(p)
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, l := range r.Legs {
+		if !l.Feasible {
+			t.Errorf("%s %s leg not planned: %s", l.Link.To, l.Name, l.Reason)
+		}
+		if l.Link.To != "FEN" || l.Name != routing.LegDiverse {
+			continue
+		}
+		if l.ReasonCode == routing.CodeSharedPt {
+			t.Errorf("FEN's diverse leg shares a point: %s", l.Choice)
+		}
+		for _, st := range l.Steps {
+			if st.SpanID != "" && strings.HasPrefix(st.SpanID, "PB") {
+				t.Errorf("FEN's diverse leg takes %s, which crosses the primary's D1 with no structure", st.SpanID)
+			}
+		}
+	}
 }

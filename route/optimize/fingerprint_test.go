@@ -35,7 +35,7 @@ func TestFingerprintCoversEveryField(t *testing.T) {
 	each := func(kind string, v reflect.Value, apply func(q *Problem) reflect.Value) {
 		for i := 0; i < v.NumField(); i++ {
 			name := v.Type().Field(i).Name
-			if kind == "Problem" && (name == "Fits" || name == "Edges" || name == "Demands" || name == "NoTransit" || name == "Charges") {
+			if kind == "Problem" && (name == "Fits" || name == "Edges" || name == "Demands" || name == "NoTransit" || name == "Sites" || name == "Charges") {
 				continue // Fits: no fingerprint at all (below); slices: their elements are checked
 			}
 			if kind == "Demand" && name == "Options" {
@@ -59,6 +59,22 @@ func TestFingerprintCoversEveryField(t *testing.T) {
 		q.NoTransit = make([]bool, q.Nodes)
 		q.NoTransit[1] = true
 	})
+	changed("Problem.Sites", func(q *Problem, _ *Settings) { q.Sites = make([]int, q.Nodes) })
+	sites := func(q *Problem) {
+		q.Sites = make([]int, q.Nodes)
+		q.Sites[1], q.Sites[2] = 1, 1
+	}
+	p1 := clone(p)
+	sites(p1)
+	withSites, _ := Fingerprint(p1, Settings{})
+	if withSites == base {
+		t.Error("marking a place left the fingerprint as it was")
+	}
+	p1 = clone(p1)
+	p1.Sites[2] = 0
+	if got, _ := Fingerprint(p1, Settings{}); got == withSites {
+		t.Error("changing one Sites mark left the fingerprint as it was")
+	}
 	charged := func(q *Problem) { q.Charges = []Charge{{ID: "h", Edges: []int{0, 1}, Cents: 5}} }
 	p0 := clone(p)
 	charged(p0)
@@ -96,6 +112,7 @@ func clone(p *Problem) *Problem {
 	q.Edges = append([]Edge(nil), p.Edges...)
 	q.Demands = append([]Demand(nil), p.Demands...)
 	q.NoTransit = append([]bool(nil), p.NoTransit...)
+	q.Sites = append([]int(nil), p.Sites...)
 	q.Charges = append([]Charge(nil), p.Charges...)
 	for i := range q.Charges {
 		q.Charges[i].Edges = append([]int(nil), p.Charges[i].Edges...)

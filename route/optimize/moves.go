@@ -13,7 +13,9 @@ func (sv *solver) reroute(d int) bool {
 		return false
 	}
 	before := sv.key()
-	memo := sv.memoUsable() && sv.st.ch[d].opt >= 0
+	// No memo for a pair whose legs pass one place: what its searches find then depends on
+	// the pair search's branching, not on costs alone (see memo.go).
+	memo := sv.memoUsable() && sv.st.ch[d].opt >= 0 && sv.sharedSite(sv.st.ch[d].legs) == 0
 	if memo && sv.memoHolds(d) {
 		if sv.memoAudit {
 			sv.auditMemo(d, before)

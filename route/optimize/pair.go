@@ -299,7 +299,9 @@ func (sv *solver) initSites() {
 }
 
 // sharedSite returns the smallest place (Problem.Sites) that the interior nodes of both legs
-// pass, or 0: two legs that pass one place share it as they would share a node.
+// pass, or 0: two legs that pass one place share it as they would share a node. A place both
+// legs reach first from one end, or last before the other (a one-entrance building's
+// entrance drawn as several nodes), is not counted: no pair avoids it.
 func (sv *solver) sharedSite(legs [][]Hop) int {
 	if sv.siteOf == nil || len(legs) < 2 || len(legs[0]) == 0 || len(legs[1]) == 0 {
 		return 0
@@ -310,14 +312,25 @@ func (sv *solver) sharedSite(legs [][]Hop) int {
 		sv.siteStamp = 1
 	}
 	// A leg's interior nodes are the ends of its hops but the last.
-	for _, h := range legs[0][:len(legs[0])-1] {
+	a, b := legs[0][:len(legs[0])-1], legs[1][:len(legs[1])-1]
+	if len(a) == 0 || len(b) == 0 {
+		return 0
+	}
+	var endSite [2]int32 // the place at each end both legs start from, if any
+	if x := sv.siteOf[sv.hopEnd(a[0])]; x == sv.siteOf[sv.hopEnd(b[0])] {
+		endSite[0] = x
+	}
+	if x := sv.siteOf[sv.hopEnd(a[len(a)-1])]; x == sv.siteOf[sv.hopEnd(b[len(b)-1])] {
+		endSite[1] = x
+	}
+	for _, h := range a {
 		if x := sv.siteOf[sv.hopEnd(h)]; x > 0 {
 			sv.siteMark[x] = sv.siteStamp
 		}
 	}
 	shared := int32(0)
-	for _, h := range legs[1][:len(legs[1])-1] {
-		if x := sv.siteOf[sv.hopEnd(h)]; x > 0 && sv.siteMark[x] == sv.siteStamp && (shared == 0 || x < shared) {
+	for _, h := range b {
+		if x := sv.siteOf[sv.hopEnd(h)]; x > 0 && x != endSite[0] && x != endSite[1] && sv.siteMark[x] == sv.siteStamp && (shared == 0 || x < shared) {
 			shared = x
 		}
 	}

@@ -102,12 +102,13 @@ type layout struct {
 	end       map[string]int
 	endEntry  map[string]geo.Entry // a building ending at one entrance: that entrance
 	noTransit []bool
-	// site marks, by node, the junctions split for turns that no entrance is at (runs of duct
-	// crossing or meeting with no structure): the nodes of one junction share a number > 0,
+	// site marks, by node, the junctions split for turns (runs of duct crossing or meeting
+	// with no structure, an entrance's or not): the nodes of one junction share a number > 0,
 	// one place for a diverse link's legs (optimize.Problem.Sites), numbered in junction
-	// order (canonicalize renumbers them). Nil when there is none. An entrance's junction is
-	// left out: two legs by one entrance share it by the entrance's own rule (its edges'
-	// group, or the single point of failure a one-entrance building has).
+	// order (canonicalize renumbers them). Nil when there is none. Two legs that both leave
+	// their end through one place (a one-entrance building's entrance) are not counted as
+	// sharing it by the optimizer: they cannot help it, and the plan names it as the single
+	// point of failure.
 	site []int
 	// joinNode marks, by node, a run of proposed spans only at a junction split for turns where
 	// new pathway joins the network (site.JoinsNetwork): a route along one of them passes the
@@ -351,7 +352,7 @@ func newLayout(s *site.Site) *layout {
 		}
 	}
 	l.groups = group - firstGroup
-	l.markSites(entrances, copies, turnAt, jIndex)
+	l.markSites(copies, turnAt)
 	l.splitAtOnlyEntrances(net, spansAt, jIndex, group)
 	l.numberClasses(net)
 	// The entrance edges whose counted lateral taps a duct, by junction: they need the
@@ -392,16 +393,10 @@ func newLayout(s *site.Site) *layout {
 }
 
 // markSites sets site (see layout) from each junction's nodes.
-func (l *layout) markSites(entrances map[string][]geo.Entry, copies [][]int, turnAt map[int]bool, jIndex map[string]int) {
-	entrance := map[int]bool{}
-	for _, es := range entrances {
-		for _, e := range es {
-			entrance[jIndex[e.Junction]] = true
-		}
-	}
+func (l *layout) markSites(copies [][]int, turnAt map[int]bool) {
 	n := 0
 	for j, ns := range copies {
-		if !turnAt[j] || len(ns) < 2 || entrance[j] {
+		if !turnAt[j] || len(ns) < 2 {
 			continue
 		}
 		if l.site == nil {
@@ -416,11 +411,15 @@ func (l *layout) markSites(entrances map[string][]geo.Entry, copies [][]int, tur
 
 // splitAtOnlyEntrances sets spanGroup: each span's group (groupOf), but a pathway's own
 // group (no group given: geo.Span.Group is its id) parted at the junction of each building's
-// only entrance (endEntry) that the pathway runs through, each side a group of its own,
+// only entrance (endEntry) that the pathway runs through, and at each tap of a counted
+// lateral (geo.ViaLateral) of a building with several ways in, each side a group of its own,
 // numbered from next in the order of the sides' first spans. Two legs of a diverse link that
 // leave such an entrance along the one duct in opposite directions share the entrance and
 // its lateral, which the plan names as the single point of failure (legsOf, reason code
-// SPOF), not the duct beyond it: the sides meet nowhere else. Parted only where the sides are
+// SPOF), not the duct beyond it: the sides meet nowhere else. Two legs that leave a building
+// by two counted laterals onto one duct and go along it on either side of the taps share no
+// stretch of it either (tester 14's counted laterals to every pathway within reach: a
+// building whose other lateral meets a loop off the same street would otherwise get no pair). Parted only where the sides are
 // joined by no other way along the pathway (a pathway drawn as a loop stays one group); a
 // group given on the campus is never parted (it may hold ducts drawn side by side that meet
 // nowhere). A site fact: the same for every plan on the site.
@@ -429,9 +428,14 @@ func (l *layout) splitAtOnlyEntrances(net *geo.Network, spansAt [][]int, jIndex 
 	for i, sp := range net.Spans {
 		l.spanGroup[i] = l.groupOf[sp.Group]
 	}
-	cut := map[string]bool{} // junctions of only entrances
+	cut := map[string]bool{} // junctions of only entrances, and taps of counted laterals
 	for _, e := range l.endEntry {
 		cut[e.Junction] = true
+	}
+	for _, en := range l.entrances {
+		if en.entry.Via == geo.ViaLateral {
+			cut[en.entry.Junction] = true
+		}
 	}
 	own := func(i int) bool { return net.Spans[i].Group == net.Spans[i].PathwayID }
 	parted := map[string]bool{} // pathways with two or more of their spans at a cut
