@@ -181,7 +181,7 @@ func TestPlanContent(t *testing.T) {
 		"Cost by category", money(s.TotalCents) + " USD", "budget " + money(*s.BudgetCents),
 		// The gap to the bound as the terminal prints it (output.GapText, in percent).
 		", gap " + output.GapText(s.GapPct) + " <span",
-		"13,481.5 m", // total route of the demo, as summary.json has it
+		"13,481.4 m", // total route of the demo, as summary.json has it
 		// The new trench with its bored part, in the terminal's words (output.NewWorkParts):
 		// the demo bores P-5's 20.0 m (tester 11's finding 13: the report said "new trench"
 		// for bored metres).
