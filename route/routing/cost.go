@@ -122,7 +122,8 @@ func (c spanClass) String() string {
 	return s
 }
 
-// allowedKey is what allowed's answer depends on.
+// allowedKey is what allowed's answer depends on: allowed hands the engine a link made of
+// these fields alone (no ID, no names), so nothing else can change it.
 type allowedKey struct {
 	medium       string
 	rate, future float64
@@ -1058,12 +1059,15 @@ func firstBand(at, upM func(int) float64, last int) (int, float64) {
 	return hi, seen[hi]
 }
 
-// cableKey is what cableFor's answer depends on.
+// cableKey is what cableFor's answer depends on: the medium, the rate and the link's facts as
+// cableFor hands them to the engine, as the engine's verdicts read them
+// (media.Engine.VerdictKey: every field of the link but its ID and the names no rule reads),
+// so a fact the rules read is never left out (the 4-pair cables of a copper link were, and
+// two links of one fibre count but three and four copper cables shared a price).
 type cableKey struct {
-	medium                       string
-	rate, future, riserM, slackM float64
-	insideA, insideB             float64 // the ends' inside metres, which the rule entrance-15m judges each
-	strands                      int
+	medium string
+	rate   float64
+	link   media.LinkKey
 }
 
 // cabled is cableFor's answer.
@@ -1076,32 +1080,31 @@ type cabled struct {
 // risers and slackM of slack, and the laying it prices (media.Engine.CableLayingFor),
 // remembered per plan.
 func (m *Model) cableFor(medium string, rate float64, facts media.Link, slackM float64) (media.Laying, int64) {
-	k := cableKey{medium, rate, facts.FutureRateGbps, facts.RiserM, slackM, facts.InsideAM, facts.InsideBM, facts.Strands}
+	facts.Outdoor, facts.SlackM = true, slackM
+	k := cableKey{medium, rate, m.eng.VerdictKey(facts)}
 	if v, ok := m.cableMemo[k]; ok {
 		return v.laying, v.perM
 	}
-	facts.Outdoor, facts.SlackM = true, slackM
 	lay, perM := m.eng.CableLayingFor(medium, rate, facts)
 	m.cableMemo[k] = cabled{lay, perM}
 	return lay, perM
 }
 
 // layingKey is what lays' and layingFor's answers depend on: the medium, the laying (lays
-// only), the link's rate, strands and ends, and the span class.
+// only), the rate, and the link's facts on spans of the class as they are handed to the
+// engine (classFacts), as its verdicts read them (media.Engine.VerdictKey: every field of the
+// link but its ID and the names no rule's condition reads). A rule on an end's building
+// (end_a, end_b) so keys the ends; a key of chosen fields left them out, and a link got the
+// verdict of another with other ends.
 type layingKey struct {
-	medium           string
-	laying           media.Laying
-	rate, future     float64
-	riserM, slackM   float64
-	insideA, insideB float64
-	strands, copper  int
-	class            spanClass
+	medium string
+	laying media.Laying
+	rate   float64
+	link   media.LinkKey
 }
 
-func (m *Model) layingKeyOf(medium string, lay media.Laying, info demandInfo, c spanClass) layingKey {
-	f := info.facts
-	return layingKey{medium: medium, laying: lay, rate: info.rate, future: f.FutureRateGbps, riserM: f.RiserM, slackM: f.SlackM,
-		insideA: f.InsideAM, insideB: f.InsideBM, strands: f.Strands, copper: f.CopperCables, class: c}
+func (m *Model) layingKeyOf(medium string, lay media.Laying, rate float64, facts media.Link) layingKey {
+	return layingKey{medium: medium, laying: lay, rate: rate, link: m.eng.VerdictKey(facts)}
 }
 
 // classFacts are the link's facts on a route that leaves the buildings over spans of class c
@@ -1116,11 +1119,12 @@ func classFacts(info demandInfo, c spanClass) media.Link {
 // class c (media.Engine.Lays), remembered per plan and, across the engines of a sweep's price
 // books, by the site (media.ReachMemo.Lays).
 func (m *Model) lays(s *site.Site, medium string, lay media.Laying, info demandInfo, c spanClass) bool {
-	k := m.layingKeyOf(medium, lay, info, c)
+	facts := classFacts(info, c)
+	k := m.layingKeyOf(medium, lay, info.rate, facts)
 	if v, ok := m.laysMemo[k]; ok {
 		return v
 	}
-	v := s.Reaches.Lays(m.eng, medium, lay, info.rate, classFacts(info, c))
+	v := s.Reaches.Lays(m.eng, medium, lay, info.rate, facts)
 	m.laysMemo[k] = v
 	return v
 }
@@ -1135,11 +1139,12 @@ type laid struct {
 // the least cost, with its prices (media.Engine.LayingFor), remembered per plan; ok is false
 // when none may.
 func (m *Model) layingFor(medium string, info demandInfo, c spanClass) (l laid, ok bool) {
-	k := m.layingKeyOf(medium, media.Laying{}, info, c)
+	facts := classFacts(info, c)
+	k := m.layingKeyOf(medium, media.Laying{}, info.rate, facts)
 	if v, ok := m.layingMemo[k]; ok {
 		return v, v.laying.Construction != ""
 	}
-	l.laying, l.price, ok = m.eng.LayingFor(medium, info.rate, classFacts(info, c))
+	l.laying, l.price, ok = m.eng.LayingFor(medium, info.rate, facts)
 	m.layingMemo[k] = l
 	return l, ok
 }
