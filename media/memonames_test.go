@@ -13,7 +13,7 @@ import (
 // are invented for the test; the rule shapes are the rule language's (media.FactList).
 func namedRules(t *testing.T) *Rules {
 	t.Helper()
-	r, err := ParseRules("named.yaml", append(slices.Clone(rulesYAML), []byte(`
+	return rulesAnd(t, `
   - id: med-singlemode
     when: (end_a == "MED" or end_b == "MED") and kind != "singlemode"
     effect: exclude
@@ -31,11 +31,7 @@ func namedRules(t *testing.T) *Rules {
     effect: exclude
     reason: "the route runs {crossed_inside_max_m} m through {crossed_building}, whose roof space is a plenum"
     source: test rule, a building-specific requirement (invented)
-`)...))
-	if err != nil {
-		t.Fatal(err)
-	}
-	return r
+`)
 }
 
 // namedPairs are two links each that differ only in one name (Link.EndA, EndB, EMISpans,
@@ -226,16 +222,13 @@ func TestNamesOnlyInTheirFacts(t *testing.T) {
 	if got := engineWith(t, nil, namedRules(t), nil, EngineOptions{}).reads; got != allNames {
 		t.Errorf("the named rules read names %b, want %b", got, allNames)
 	}
-	cable, err := ParseRules("cable.yaml", append(slices.Clone(rulesYAML), []byte(`
+	cable := rulesAnd(t, `
   - id: no-transition-at-med
     when: cable == "osp-loose-tube spliced to ofnr-riser at the entrance of MED"
     effect: exclude
     reason: "test rule on the cable's words"
     source: test rule (invented)
-`)...))
-	if err != nil {
-		t.Fatal(err)
-	}
+`)
 	if got := engineWith(t, nil, cable, nil, EngineOptions{}).reads; got != nameEndA|nameEndB {
 		t.Errorf("a rule on the cable reads names %b, want the ends' %b", got, nameEndA|nameEndB)
 	}

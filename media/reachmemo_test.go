@@ -24,6 +24,16 @@ func bookWith(t *testing.T, pairs ...string) *PriceBook {
 	return p
 }
 
+// rulesAnd is the default rule file with the YAML rules extra appended.
+func rulesAnd(t *testing.T, extra string) *Rules {
+	t.Helper()
+	r, err := ParseRules("test-rules.yaml", append(slices.Clone(rulesYAML), []byte(extra)...))
+	if err != nil {
+		t.Fatal(err)
+	}
+	return r
+}
+
 func engineWith(t *testing.T, c *Catalog, r *Rules, p *PriceBook, opt EngineOptions) *Engine {
 	t.Helper()
 	e, err := NewEngine(c, r, p, opt)
@@ -145,16 +155,13 @@ func TestReachMemoLays(t *testing.T) {
 		bookWith(t, "transition_splice_each: 260.00\n", ""),
 		bookWith(t, "osp-loose-tube: {12: 1.43, 24: 2.31,", "osp-loose-tube: {12: 9.43, 24: 2.31,"),
 	}
-	strict, err := ParseRules("strict.yaml", append(slices.Clone(rulesYAML), []byte(`
+	strict := rulesAnd(t, `
   - id: no-288-12
     when: cable == "2 × osp-loose-tube (288 + 12 strands)"
     effect: exclude
     reason: "test rule on the cable the book picks"
     source: common practice, no published source
-`)...))
-	if err != nil {
-		t.Fatal(err)
-	}
+`)
 	var questions []Link
 	for _, strands := range []int{2, 12, 48, 300} {
 		for _, riser := range []float64{0, 40} {
@@ -219,16 +226,13 @@ func TestReachMemoLays(t *testing.T) {
 // or as any: the memo keys the cables of every construction asked (Engine.bookKey), as for Lays.
 func TestReachMemoCables(t *testing.T) {
 	t.Parallel()
-	strict, err := ParseRules("strict.yaml", append(slices.Clone(rulesYAML), []byte(`
+	strict := rulesAnd(t, `
   - id: no-288-12
     when: cable == "2 × osp-loose-tube (288 + 12 strands)" or cable == "2 × indoor-outdoor (288 + 12 strands)"
     effect: exclude
     reason: "test rule on the cable the book picks"
     source: common practice, no published source
-`)...))
-	if err != nil {
-		t.Fatal(err)
-	}
+`)
 	books := []*PriceBook{DefaultPriceBook(),
 		bookWith(t, "osp-loose-tube: {12: 1.43, 24: 2.31,", "osp-loose-tube: {12: 9.43, 24: 2.31,",
 			"indoor-outdoor: {12: 2.02, 24: 3.26,", "indoor-outdoor: {12: 9.02, 24: 3.26,")}
@@ -254,5 +258,41 @@ func TestReachMemoCables(t *testing.T) {
 	}
 	if differ == 0 {
 		t.Fatal("the books' cables change no reach: the test checks nothing")
+	}
+}
+
+// TestReachMemoHold: a memo made room for by Hold keeps every answer of a plan larger than
+// its first size, so that the next scenario, asking the same questions in the same order,
+// finds them; without it, an LRU of the first size keeps only the last questions asked, and
+// the next scenario's first questions drop the rest before it asks them. Hold never shrinks
+// the memo.
+func TestReachMemoHold(t *testing.T) {
+	t.Parallel()
+	e := engineWith(t, nil, nil, nil, EngineOptions{})
+	var questions []Link
+	for riser := 0; riser < 40; riser++ {
+		questions = append(questions, Link{RiserM: float64(riser), SlackM: 10, MaxEMI: "none", Outdoor: true, PathwayTypes: []string{"duct"},
+			ConnectorPairs: 2, Strands: 12, InsideAM: float64(riser) / 2, InsideBM: float64(riser) / 2})
+	}
+	ask := func(r *ReachMemo) {
+		for _, l := range questions {
+			r.MaxChannelMAs(e, "os2", Laying{}, 10, 0, l)
+			r.Lays(e, "os2", Laying{Construction: "osp-loose-tube"}, 10, l)
+		}
+	}
+	small := NewReachMemo(8)
+	ask(small)
+	if reaches, lays := small.Held(); reaches != 8 || lays != 8*laysPerReach {
+		t.Fatalf("a memo of 8 reaches holds %d reaches, %d layings after 40 questions: want 8 and %d", reaches, lays, 8*laysPerReach)
+	}
+	held := NewReachMemo(8)
+	held.Hold(len(questions), len(questions))
+	ask(held)
+	if reaches, lays := held.Held(); reaches != len(questions) || lays != len(questions) {
+		t.Errorf("a memo held for 40 questions holds %d reaches, %d layings after them: want 40 and 40", reaches, lays)
+	}
+	held.Hold(1, 1)
+	if reaches, lays := held.Held(); reaches != len(questions) || lays != len(questions) {
+		t.Errorf("Hold(1, 1) shrank the memo to %d reaches, %d layings", reaches, lays)
 	}
 }

@@ -63,9 +63,10 @@ type Model struct {
 	design      plan.Design
 	allowedMemo map[allowedKey]bool
 	cableMemo   map[cableKey]cabled
-	// laysMemo and layingMemo remember lays and layingFor.
+	// laysMemo and layingMemo remember lays and layingFor, reachMemo maxChannelMAs.
 	laysMemo   map[layingKey]bool
 	layingMemo map[layingKey]laid
+	reachMemo  map[reachKey]float64
 	bidMemo    map[media.BidBases][]media.Quantity // items.BidPer by bases, for the model's book
 }
 
@@ -140,6 +141,7 @@ func (m *Model) allowed(s *site.Site, medium string, rate, future float64, stran
 		return v
 	}
 	l := c.facts(media.Link{ConnectorPairs: ConnectorPairs, Strands: strands})
+	m.hold(s, 1, 0)
 	v := s.Reaches.MaxChannelM(m.eng, medium, rate, future, l) > 0
 	m.allowedMemo[k] = v
 	return v
@@ -294,7 +296,7 @@ func (m *Model) whyNot(name string, info demandInfo, c spanClass) string {
 // the optimizer's problem asks of the book are checked by CheckPrices, all at once.
 func NewModel(eng *media.Engine, d plan.Design) *Model {
 	return &Model{eng: eng, prices: eng.PriceBook(), design: d, allowedMemo: map[allowedKey]bool{}, cableMemo: map[cableKey]cabled{},
-		laysMemo: map[layingKey]bool{}, layingMemo: map[layingKey]laid{},
+		laysMemo: map[layingKey]bool{}, layingMemo: map[layingKey]laid{}, reachMemo: map[reachKey]float64{},
 		bidMemo: map[media.BidBases][]media.Quantity{}}
 }
 
@@ -1003,11 +1005,42 @@ func (m *Model) joinBands(s *site.Site, medium string, lay media.Laying, rate, f
 	at = func(n int) float64 {
 		joinsM := spliceSlackM(m.design, n)
 		facts.Splices, facts.SlackM = base+n, slackM+joinsM
-		return s.Reaches.MaxChannelMAs(m.eng, medium, lay, rate, future, facts) - joinsM
+		return m.maxChannelMAs(s, medium, lay, rate, future, facts) - joinsM
 	}
 	insideM = layingInsideM(lay, facts)
 	upM = func(n int) float64 { return joinsUpToM(m.design, n) + insideM }
 	return at, upM, insideM
+}
+
+// reachKey is what maxChannelMAs's answer depends on: the medium, the laying, the rates and
+// the link's facts as the engine's verdicts read them (media.Engine.VerdictKey).
+type reachKey struct {
+	medium       string
+	laying       media.Laying
+	rate, future float64
+	link         media.LinkKey
+}
+
+// maxChannelMAs is the engine's MaxChannelMAs, remembered per plan and, across the engines of
+// a sweep's price books, by the site (media.ReachMemo): a plan asks it again for every option
+// of every link with the same ends' facts.
+func (m *Model) maxChannelMAs(s *site.Site, medium string, lay media.Laying, rate, future float64, facts media.Link) float64 {
+	k := reachKey{medium: medium, laying: lay, rate: rate, future: future, link: m.eng.VerdictKey(facts)}
+	if v, ok := m.reachMemo[k]; ok {
+		return v
+	}
+	m.hold(s, 1, 0)
+	v := s.Reaches.MaxChannelMAs(m.eng, medium, lay, rate, future, facts)
+	m.reachMemo[k] = v
+	return v
+}
+
+// hold makes room in the site's memo of reaches for what the plan has asked it and reaches
+// and lays questions more (media.ReachMemo.Hold): each once, as the model's own memos ask
+// them, so that the memo drops none of them, and the next scenario of a sweep, asking them
+// in the same order, finds them.
+func (m *Model) hold(s *site.Site, reaches, lays int) {
+	s.Reaches.Hold(len(m.reachMemo)+len(m.allowedMemo)+reaches, len(m.laysMemo)+lays)
 }
 
 // layingInsideM is the leg's cable inside the buildings at the laying's transition ends
@@ -1124,6 +1157,7 @@ func (m *Model) lays(s *site.Site, medium string, lay media.Laying, info demandI
 	if v, ok := m.laysMemo[k]; ok {
 		return v
 	}
+	m.hold(s, 0, 1)
 	v := s.Reaches.Lays(m.eng, medium, lay, info.rate, facts)
 	m.laysMemo[k] = v
 	return v

@@ -6,6 +6,7 @@ import (
 
 	"spanwright/geo"
 	"spanwright/media"
+	"spanwright/route/internal/testsite"
 	"spanwright/route/plan"
 	"spanwright/route/site"
 )
@@ -87,5 +88,25 @@ func TestModelMemosKeyWhatTheRulesRead(t *testing.T) {
 				}
 			}
 		}
+	}
+}
+
+// TestProblemHoldsItsQuestions: building a plan's problem makes room in the site's memo of
+// reaches for every question the plan asks it (media.ReachMemo.Hold), so a memo first made
+// for one reach and four layings ends holding all the demo plan's: the next scenario of a
+// sweep finds them, where an LRU smaller than a plan's questions, asked in the same order by
+// every scenario, would keep nothing it asks first.
+func TestProblemHoldsItsQuestions(t *testing.T) {
+	t.Parallel()
+	s, p := testsite.DemoFresh(t)
+	s.Reaches = media.NewReachMemo(1)
+	m, links := generatedLinks(t, s, p) // the demo plan's model and links
+	if _, _, _, err := problem(s, m, links, m.runsOf(s)); err != nil {
+		t.Fatal(err)
+	}
+	reaches, lays := s.Reaches.Held()
+	if reaches < len(m.reachMemo) || lays != len(m.laysMemo) || len(m.reachMemo) < 2 || len(m.laysMemo) < 5 {
+		t.Errorf("the site's memo holds %d reaches and %d layings; the plan asked %d reaches (and %d span classes allowed) and %d layings",
+			reaches, lays, len(m.reachMemo), len(m.allowedMemo), len(m.laysMemo))
 	}
 }
