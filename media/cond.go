@@ -238,6 +238,10 @@ type Condition struct {
 	src  string
 	root expr
 	lits []strLit
+	// reads are the facts the condition reads, by index into facts, in the order written
+	// (a fact read twice is listed twice): what a verdict of the rules can depend on
+	// (Engine.reads).
+	reads []int
 }
 
 // String returns the condition as written.
@@ -247,9 +251,10 @@ func (c *Condition) String() string { return c.src }
 func (c *Condition) eval(f []value) bool { return c.root.eval(f).b }
 
 type parser struct {
-	toks []token
-	i    int
-	lits []strLit
+	toks  []token
+	i     int
+	lits  []strLit
+	reads []int // the facts read, by index (Condition.reads)
 }
 
 // parseCondition parses and type-checks a condition; errors are *condError with the byte
@@ -273,7 +278,7 @@ func parseCondition(src string) (*Condition, error) {
 	if root.typ() != typeBool {
 		return nil, &condError{off, fmt.Sprintf("a condition must be true/false, got %s: compare it, e.g. with >", root.typ()), ErrBadValue}
 	}
-	return &Condition{src: src, root: root, lits: p.lits}, nil
+	return &Condition{src: src, root: root, lits: p.lits, reads: p.reads}, nil
 }
 
 func (p *parser) peek() token { return p.toks[p.i] }
@@ -431,6 +436,7 @@ func (p *parser) operand() (expr, int, error) {
 		if !ok {
 			return nil, 0, &condError{t.off, unknownFactMsg(t.text), ErrUnknownFact}
 		}
+		p.reads = append(p.reads, idx)
 		return factExpr{idx}, t.off, nil
 	}
 	return nil, 0, &condError{t.off, fmt.Sprintf("want a fact, number or string, got %s", t), ErrSyntax}

@@ -8,6 +8,7 @@ import (
 	"sort"
 	"strings"
 	"sync"
+	"unique"
 
 	lru "github.com/hashicorp/golang-lru/v2"
 
@@ -73,6 +74,9 @@ type Engine struct {
 	chosen *lru.Cache[chooseKey, Choice]
 	// reachID digests what MaxChannelM depends on besides its arguments (ReachMemo).
 	reachID [32]byte
+	// reads are the link's names some rule's condition reads a fact made from (Fact.names):
+	// the only names the rules' verdicts can depend on (judged).
+	reads names
 	// oneCable is Cables of every construction of the catalog for the strands one cable of
 	// its largest size holds (oneCables).
 	oneCable map[*Construction][]covered
@@ -160,6 +164,9 @@ func NewCheckEngine(c *Catalog, r *Rules, p *PriceBook, opt EngineOptions) (*Eng
 	}
 	for _, rule := range r.Rules {
 		e.checkRule(rule, &errs)
+		for _, f := range rule.When.reads {
+			e.reads |= facts[f].names
+		}
 	}
 	if err := sorted(&errs); err != nil {
 		if perr := p.Check(Needs(c)); perr != nil {
@@ -1321,7 +1328,7 @@ func shortLengths(l Link) lengths { return trialLengths(l, l.RiserM+l.SlackM+1) 
 // medium not in the catalog.
 func (e *Engine) LayingFor(medium string, rateGbps float64, l Link) (lay Laying, price LayingPrice, ok bool) {
 	var cost int64
-	e.eachLaying(medium, rateGbps, l, func(c *candidate, laid Laying) bool {
+	e.eachLaying(medium, rateGbps, e.judged(l), func(c *candidate, laid Laying) bool {
 		if c.failed < 0 && (!ok || c.costCents < cost) {
 			lay, price, cost, ok = laid, e.layingPrice(c.m, c.k, c.inside, c.at, c.strands), c.costCents, true
 		}
@@ -1335,6 +1342,7 @@ func (e *Engine) LayingFor(medium string, rateGbps float64, l Link) (lay Laying,
 // route of l's kind may be laid so. It panics on a medium not in the catalog.
 func (e *Engine) Lays(medium string, lay Laying, rateGbps float64, l Link) bool {
 	m := e.mustMedium(medium)
+	l = e.judged(l)
 	l.RateGbps = rateGbps
 	var c candidate
 	return e.feasibleAt(&c, l, slices.Index(e.cat.Media, m), shortLengths(l).channelM, lay)
@@ -1356,7 +1364,8 @@ func (e *Engine) MaxChannelM(medium string, rateGbps, futureRateGbps float64, l 
 // MaxChannelMAs is MaxChannelM with the cable laid as lay (its construction, with or without
 // its transition); the zero Laying is any, as MaxChannelM.
 func (e *Engine) MaxChannelMAs(medium string, lay Laying, rateGbps, futureRateGbps float64, l Link) float64 {
-	k := maxKeyOf(medium, lay, rateGbps, futureRateGbps, l)
+	l = e.judged(l)
+	k := e.maxKeyOf(medium, lay, rateGbps, futureRateGbps, l)
 	if v, ok := e.maxMemo.Get(k); ok {
 		return v
 	}
@@ -1365,27 +1374,44 @@ func (e *Engine) MaxChannelMAs(medium string, lay Laying, rateGbps, futureRateGb
 	return v
 }
 
-// maxKeyOf is MaxChannelMAs's question as a key.
-func maxKeyOf(medium string, lay Laying, rateGbps, futureRateGbps float64, l Link) maxKey {
-	return maxKey{medium: medium, laying: lay, rate: rateGbps, future: futureRateGbps, riser: l.RiserM, slack: l.SlackM,
-		emi: l.MaxEMI, outdoor: l.Outdoor, plenum: l.Plenum, types: strings.Join(l.PathwayTypes, ","), pairs: l.ConnectorPairs,
-		splices: l.Splices, strands: l.Strands, copper: l.CopperCables, insideA: l.InsideAM, insideB: l.InsideBM, crossed: l.CrossedInsideM,
-		crossedMax: l.CrossedInsideMaxM}
+// maxKeyOf is MaxChannelMAs's question as a key: the link as judged, with the rates asked and
+// no route (maxChannelM sets them so), which Lays reads alike (it judges at its own rate and
+// the shortest channel, shortLengths).
+func (e *Engine) maxKeyOf(medium string, lay Laying, rateGbps, futureRateGbps float64, l Link) maxKey {
+	l.RouteM, l.RateGbps, l.FutureRateGbps = 0, rateGbps, futureRateGbps
+	return maxKey{medium: medium, laying: lay, link: e.VerdictKey(l)}
 }
 
-// maxKey is what MaxChannelM's answer depends on (with the engine).
+// maxKey is what MaxChannelM's answer depends on (with the engine): the medium, the laying
+// and every field of the link as the rules judge it (VerdictKey).
 type maxKey struct {
-	medium                     string
-	laying                     Laying
-	rate, future, riser, slack float64
-	emi                        string
-	outdoor, plenum            bool
-	types                      string
-	pairs, splices, strands    int
-	copper                     int
-	insideA, insideB, crossed  float64
-	crossedMax                 float64
+	medium string
+	laying Laying
+	link   LinkKey
 }
+
+// judged is l as the rules' verdicts read it (MaxChannelM, Lays, LayingFor, CableLayingFor,
+// and the memos of them): with its ID and the names no rule's condition reads (e.reads)
+// cleared. A verdict is whether the rules' conditions hold on each candidate's facts, with
+// the candidates' costs (cost, layingPrice: no name in them); a name is in no fact but those
+// made from it (Fact.names, held to it by TestNamesOnlyInTheirFacts), so a verdict on the
+// judged link is the verdict on l, and a memo keyed by the judged link (keyOf, every field)
+// keys every name its answer can depend on. Reasons (Choose, WhyNotLaid) are judged on l.
+func (e *Engine) judged(l Link) Link { return e.reads.keep(l) }
+
+// LinkKey is a link as the engine's verdicts read it (Engine.VerdictKey), comparable: a
+// caller's memo of MaxChannelM, Lays, LayingFor or CableLayingFor keys it with the
+// question's other arguments. It is a handle of the link's every field (unique.Handle), one
+// word: a memo's many questions about a few thousand links keep each link once, and compare
+// and hash a pointer.
+type LinkKey struct{ h unique.Handle[chooseKey] }
+
+// VerdictKey is l as MaxChannelM, MaxChannelMAs, Lays, LayingFor and CableLayingFor read it,
+// as a key: every field of Link (a field added to Link is added to it, TestChooseRemembers)
+// but those that cannot change their answers: the ID, which is in no fact, and the names of
+// buildings and spans (EndA, EndB, EMISpans, CrossedBuilding) that no rule's condition reads.
+// Two links of one key get the same answers from each of them with the same other arguments.
+func (e *Engine) VerdictKey(l Link) LinkKey { return LinkKey{unique.Make(keyOf(e.judged(l)))} }
 
 func (e *Engine) maxChannelM(medium string, lay Laying, rateGbps, futureRateGbps float64, l Link) float64 {
 	mi := -1
@@ -1518,6 +1544,7 @@ func (e *Engine) CablePerMCents(medium string, strands int, outdoor bool) int64 
 func (e *Engine) CableLayingFor(medium string, rateGbps float64, l Link) (Laying, int64) {
 	m := e.mustMedium(medium)
 	mi := slices.Index(e.cat.Media, m)
+	l = e.judged(l)
 	l.RateGbps = rateGbps
 	at := trialLengths(l, l.RiserM+l.SlackM+1)
 	// The constructions by price, cheapest first: the first that passes is the answer.

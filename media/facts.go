@@ -9,6 +9,12 @@ type Fact struct {
 	Enum []string // the values a string fact takes, when fixed
 	Doc  string   // meaning and unit
 	typ  valType
+	// names are the names of the link (Link.EndA, EndB, EMISpans, CrossedBuilding) the fact's
+	// value is made from; 0 for a fact made from none. Such a fact tells one building or span
+	// from another: the rules' verdicts depend on those names only where a condition reads
+	// the fact (Engine.reads), and the engine's memos of verdicts leave the other names out
+	// of their keys (Engine.judged). TestNamesOnlyInTheirFacts holds every fact to its names.
+	names names
 }
 
 // Indices of the facts, in the order of facts.
@@ -83,6 +89,13 @@ func strFact(name, doc string, enum ...string) Fact {
 }
 func boolFact(name, doc string) Fact { return Fact{Name: name, Type: "bool", Doc: doc, typ: typeBool} }
 
+// nameFact is a string fact made from the link's names n.
+func nameFact(name, doc string, n names) Fact {
+	f := strFact(name, doc)
+	f.names = n
+	return f
+}
+
 // facts is indexed by the f* constants.
 var facts = [nFacts]Fact{
 	fChannelM:                 numFact("channel_m", "channel length: route, risers and slack, in metres"),
@@ -131,9 +144,9 @@ var facts = [nFacts]Fact{
 	fInsideMaxM:               numFact("inside_max_m", "the larger of inside_a_m and inside_b_m, in metres"),
 	fUnsplicedInsideMaxM:      numFact("unspliced_inside_max_m", "the construction's own cable inside a building: the larger of inside_a_m and inside_b_m at the ends with no entrance transition (transition_a, transition_b), in metres; 0 with one at both ends"),
 	fCrossedInsideMaxM:        numFact("crossed_inside_max_m", "the most cable inside any one building the route passes through (neither end's): pathways drawn inside it and tunnels or trays across it wall to wall, in metres; 0 when it passes through none"),
-	fCrossedBuilding:          strFact("crossed_building", "the building of crossed_inside_max_m, by id, for reasons; \"a building it passes through\" when not known"),
-	fEndA:                     strFact("end_a", "the building at inside_a_m's end, by id, for reasons; \"the building at one end\" when not known"),
-	fEndB:                     strFact("end_b", "the building at inside_b_m's end, by id, for reasons; \"the building at the other end\" when not known"),
+	fCrossedBuilding:          nameFact("crossed_building", "the building of crossed_inside_max_m, by id, for reasons; \"a building it passes through\" when not known", nameCrossedBuilding),
+	fEndA:                     nameFact("end_a", "the building at inside_a_m's end, by id, for reasons; \"the building at one end\" when not known", nameEndA),
+	fEndB:                     nameFact("end_b", "the building at inside_b_m's end, by id, for reasons; \"the building at the other end\" when not known", nameEndB),
 	fCordsM:                   numFact("cords_m", "patch and equipment cords of a copper channel, both ends together, in metres"),
 	fCopperChannelM:           numFact("copper_channel_m", "channel_m plus cords_m: the copper channel end to end, in metres"),
 	fMinLossDB:                numFact("min_loss_db", "the least channel loss the application's receiver takes, in dB; 0 when any"),
@@ -141,8 +154,8 @@ var facts = [nFacts]Fact{
 	fAttenuatorDB:             numFact("attenuator_db", "the fixed attenuator at each receiver that brings the loss up to min_loss_db, in dB; 0 when none is needed"),
 	fOverloadDB:               numFact("overload_db", "how far the channel, attenuator included, stays below min_loss_db, in dB; 0 when the receiver is safe"),
 	fRepairSplices:            numFact("repair_splices", "repair splices allowed for in loss_margin_db: single-mode outside plant, per km (catalog margins)"),
-	fCable:                    strFact("cable", "the cable laid, for reasons: construction, with the number of cables in front when the strands need more than one (\"9 × outdoor (one 4-pair cable per port pair)\"), or with a transition e.g. \"osp-loose-tube spliced to ofnr-riser at both entrances\" or \"… at the entrance of CAF\""),
-	fEMISpans:                 strFact("emi_spans", "the route's spans at its highest EMI level (max_emi), for reasons: \"span D-EW02b\" or \"spans A/1, A/2\"; \"one of its spans\" when not known"),
+	fCable:                    nameFact("cable", "the cable laid, for reasons: construction, with the number of cables in front when the strands need more than one (\"9 × outdoor (one 4-pair cable per port pair)\"), or with a transition e.g. \"osp-loose-tube spliced to ofnr-riser at both entrances\" or \"… at the entrance of CAF\"", nameEndA|nameEndB),
+	fEMISpans:                 nameFact("emi_spans", "the route's spans at its highest EMI level (max_emi), for reasons: \"span D-EW02b\" or \"spans A/1, A/2\"; \"one of its spans\" when not known", nameEMISpans),
 	fLossMarginBasis:          strFact("loss_margin_basis", "what loss_margin_db is made of, for reasons: e.g. \"0.5 dB + 3 repair splices of 0.3 dB\", \"the catalog's multimode margin\" or \"the plan's loss_margin_db\"; \"\" for copper"),
 }
 

@@ -55,6 +55,40 @@ type Link struct {
 	CrossedBuilding   string
 }
 
+// names is a set of the fields of Link that name things, for reasons: the buildings at its
+// ends (EndA, EndB), the spans at its highest EMI level (EMISpans) and the building it passes
+// through the most (CrossedBuilding). The facts made from them (Fact.names) tell one link from
+// another; a rule decides on them only where its condition reads such a fact (Engine.reads).
+type names uint8
+
+// The names of a link.
+const (
+	nameEndA names = 1 << iota
+	nameEndB
+	nameEMISpans
+	nameCrossedBuilding
+	allNames = nameEndA | nameEndB | nameEMISpans | nameCrossedBuilding
+)
+
+// keep is l with its names not in n, and its ID, cleared: the ID is in no fact (messages
+// only), and a name not in n is in no fact a rule's condition reads when n is Engine.reads.
+func (n names) keep(l Link) Link {
+	l.ID = ""
+	if n&nameEndA == 0 {
+		l.EndA = ""
+	}
+	if n&nameEndB == 0 {
+		l.EndB = ""
+	}
+	if n&nameEMISpans == 0 {
+		l.EMISpans = ""
+	}
+	if n&nameCrossedBuilding == 0 {
+		l.CrossedBuilding = ""
+	}
+	return l
+}
+
 // Ends names the ends of a link where its outside-plant cable is spliced to listed inside
 // cable at the entrance (an entrance transition): none, the first end (EndA, the building of
 // Link.InsideAM), the other (EndB, of Link.InsideBM) or both. Which ends a candidate splices

@@ -24,6 +24,16 @@ func bookWith(t *testing.T, pairs ...string) *PriceBook {
 	return p
 }
 
+// rulesAnd is the default rule file with the YAML rules extra appended.
+func rulesAnd(t *testing.T, extra string) *Rules {
+	t.Helper()
+	r, err := ParseRules("test-rules.yaml", append(slices.Clone(rulesYAML), []byte(extra)...))
+	if err != nil {
+		t.Fatal(err)
+	}
+	return r
+}
+
 func engineWith(t *testing.T, c *Catalog, r *Rules, p *PriceBook, opt EngineOptions) *Engine {
 	t.Helper()
 	e, err := NewEngine(c, r, p, opt)
@@ -135,7 +145,7 @@ func TestReachID(t *testing.T) {
 // in every price, lack the transition's enclosure, or make the 12-strand cable dearer than
 // the 24 (so 300 strands buy 288 + 24, not 288 + 12), under the default rules and rules with
 // one more that excludes "2 × osp-loose-tube (288 + 12 strands)" by the fact cable (which the
-// book picks, so the memo keys it: Engine.cablesKey). Without cablesKey the last book's
+// book picks, so the memo keys it: Engine.bookKey). Without it the last book's
 // answer for 300 strands would be the first's.
 func TestReachMemoLays(t *testing.T) {
 	books := []*PriceBook{
@@ -145,16 +155,13 @@ func TestReachMemoLays(t *testing.T) {
 		bookWith(t, "transition_splice_each: 260.00\n", ""),
 		bookWith(t, "osp-loose-tube: {12: 1.43, 24: 2.31,", "osp-loose-tube: {12: 9.43, 24: 2.31,"),
 	}
-	strict, err := ParseRules("strict.yaml", append(slices.Clone(rulesYAML), []byte(`
+	strict := rulesAnd(t, `
   - id: no-288-12
     when: cable == "2 × osp-loose-tube (288 + 12 strands)"
     effect: exclude
     reason: "test rule on the cable the book picks"
     source: common practice, no published source
-`)...))
-	if err != nil {
-		t.Fatal(err)
-	}
+`)
 	var questions []Link
 	for _, strands := range []int{2, 12, 48, 300} {
 		for _, riser := range []float64{0, 40} {
@@ -209,5 +216,83 @@ func TestReachMemoLays(t *testing.T) {
 				t.Errorf("300 strands of os2 osp-loose-tube at 10G under the strict rule: book 0 lays %v, book 3 lays %v; want false, true", a, b)
 			}
 		}
+	}
+}
+
+// TestReachMemoCables: under a rule on the fact cable, which names the cables the book picks
+// for the strands (Engine.Cables: 300 strands as 288 + 12, or as 288 + 24 where the 12-strand
+// cable is dearer), a reach remembered from one engine and given to another of a book that
+// picks other cables equals the other's own, asked in either order, laid as a construction
+// or as any: the memo keys the cables of every construction asked (Engine.bookKey), as for Lays.
+func TestReachMemoCables(t *testing.T) {
+	t.Parallel()
+	strict := rulesAnd(t, `
+  - id: no-288-12
+    when: cable == "2 × osp-loose-tube (288 + 12 strands)" or cable == "2 × indoor-outdoor (288 + 12 strands)"
+    effect: exclude
+    reason: "test rule on the cable the book picks"
+    source: common practice, no published source
+`)
+	books := []*PriceBook{DefaultPriceBook(),
+		bookWith(t, "osp-loose-tube: {12: 1.43, 24: 2.31,", "osp-loose-tube: {12: 9.43, 24: 2.31,",
+			"indoor-outdoor: {12: 2.02, 24: 3.26,", "indoor-outdoor: {12: 9.02, 24: 3.26,")}
+	l := Link{ID: "q", RiserM: 0, SlackM: 10, MaxEMI: "none", Outdoor: true, PathwayTypes: []string{"duct"}, ConnectorPairs: 2, Strands: 300}
+	differ := 0
+	for _, lay := range []Laying{{}, {Construction: "osp-loose-tube"}, {Construction: "indoor-outdoor"}} {
+		var want [2]float64
+		for i, p := range books {
+			want[i] = engineWith(t, nil, strict, p, EngineOptions{}).maxChannelM("os2", lay, 10, 0, l)
+		}
+		if want[0] != want[1] {
+			differ++
+		}
+		for _, order := range [][2]int{{0, 1}, {1, 0}} {
+			memo := NewReachMemo(1 << 10)
+			for _, i := range order {
+				e := engineWith(t, nil, strict, books[i], EngineOptions{})
+				if got := memo.MaxChannelMAs(e, "os2", lay, 10, 0, l); got != want[i] {
+					t.Errorf("os2 laid %+v, book %d asked after book %d: remembered %v m, the engine's own %v m", lay, i, order[0], got, want[i])
+				}
+			}
+		}
+	}
+	if differ == 0 {
+		t.Fatal("the books' cables change no reach: the test checks nothing")
+	}
+}
+
+// TestReachMemoHold: a memo made room for by Hold keeps every answer of a plan larger than
+// its first size, so that the next scenario, asking the same questions in the same order,
+// finds them; without it, an LRU of the first size keeps only the last questions asked, and
+// the next scenario's first questions drop the rest before it asks them. Hold never shrinks
+// the memo.
+func TestReachMemoHold(t *testing.T) {
+	t.Parallel()
+	e := engineWith(t, nil, nil, nil, EngineOptions{})
+	var questions []Link
+	for riser := 0; riser < 40; riser++ {
+		questions = append(questions, Link{RiserM: float64(riser), SlackM: 10, MaxEMI: "none", Outdoor: true, PathwayTypes: []string{"duct"},
+			ConnectorPairs: 2, Strands: 12, InsideAM: float64(riser) / 2, InsideBM: float64(riser) / 2})
+	}
+	ask := func(r *ReachMemo) {
+		for _, l := range questions {
+			r.MaxChannelMAs(e, "os2", Laying{}, 10, 0, l)
+			r.Lays(e, "os2", Laying{Construction: "osp-loose-tube"}, 10, l)
+		}
+	}
+	small := NewReachMemo(8)
+	ask(small)
+	if reaches, lays := small.Held(); reaches != 8 || lays != 8*laysPerReach {
+		t.Fatalf("a memo of 8 reaches holds %d reaches, %d layings after 40 questions: want 8 and %d", reaches, lays, 8*laysPerReach)
+	}
+	held := NewReachMemo(8)
+	held.Hold(len(questions), len(questions))
+	ask(held)
+	if reaches, lays := held.Held(); reaches != len(questions) || lays != len(questions) {
+		t.Errorf("a memo held for 40 questions holds %d reaches, %d layings after them: want 40 and 40", reaches, lays)
+	}
+	held.Hold(1, 1)
+	if reaches, lays := held.Held(); reaches != len(questions) || lays != len(questions) {
+		t.Errorf("Hold(1, 1) shrank the memo to %d reaches, %d layings", reaches, lays)
 	}
 }

@@ -63,9 +63,10 @@ type Model struct {
 	design      plan.Design
 	allowedMemo map[allowedKey]bool
 	cableMemo   map[cableKey]cabled
-	// laysMemo and layingMemo remember lays and layingFor.
+	// laysMemo and layingMemo remember lays and layingFor, reachMemo maxChannelMAs.
 	laysMemo   map[layingKey]bool
 	layingMemo map[layingKey]laid
+	reachMemo  map[reachKey]float64
 	bidMemo    map[media.BidBases][]media.Quantity // items.BidPer by bases, for the model's book
 }
 
@@ -122,7 +123,8 @@ func (c spanClass) String() string {
 	return s
 }
 
-// allowedKey is what allowed's answer depends on.
+// allowedKey is what allowed's answer depends on: allowed hands the engine a link made of
+// these fields alone (no ID, no names), so nothing else can change it.
 type allowedKey struct {
 	medium       string
 	rate, future float64
@@ -139,6 +141,7 @@ func (m *Model) allowed(s *site.Site, medium string, rate, future float64, stran
 		return v
 	}
 	l := c.facts(media.Link{ConnectorPairs: ConnectorPairs, Strands: strands})
+	m.hold(s, 1, 0)
 	v := s.Reaches.MaxChannelM(m.eng, medium, rate, future, l) > 0
 	m.allowedMemo[k] = v
 	return v
@@ -293,7 +296,7 @@ func (m *Model) whyNot(name string, info demandInfo, c spanClass) string {
 // the optimizer's problem asks of the book are checked by CheckPrices, all at once.
 func NewModel(eng *media.Engine, d plan.Design) *Model {
 	return &Model{eng: eng, prices: eng.PriceBook(), design: d, allowedMemo: map[allowedKey]bool{}, cableMemo: map[cableKey]cabled{},
-		laysMemo: map[layingKey]bool{}, layingMemo: map[layingKey]laid{},
+		laysMemo: map[layingKey]bool{}, layingMemo: map[layingKey]laid{}, reachMemo: map[reachKey]float64{},
 		bidMemo: map[media.BidBases][]media.Quantity{}}
 }
 
@@ -1003,11 +1006,42 @@ func (m *Model) joinBands(s *site.Site, medium string, lay media.Laying, rate, f
 	at = func(n int) float64 {
 		joinsM := spliceSlackM(m.design, n)
 		facts.Splices, facts.SlackM = base+n, slackM+joinsM
-		return s.Reaches.MaxChannelMAs(m.eng, medium, lay, rate, future, facts) - joinsM
+		return m.maxChannelMAs(s, medium, lay, rate, future, facts) - joinsM
 	}
 	insideM = layingInsideM(lay, facts)
 	upM = func(n int) float64 { return joinsUpToM(m.design, n) + insideM }
 	return at, upM, insideM
+}
+
+// reachKey is what maxChannelMAs's answer depends on: the medium, the laying, the rates and
+// the link's facts as the engine's verdicts read them (media.Engine.VerdictKey).
+type reachKey struct {
+	medium       string
+	laying       media.Laying
+	rate, future float64
+	link         media.LinkKey
+}
+
+// maxChannelMAs is the engine's MaxChannelMAs, remembered per plan and, across the engines of
+// a sweep's price books, by the site (media.ReachMemo): a plan asks it again for every option
+// of every link with the same ends' facts.
+func (m *Model) maxChannelMAs(s *site.Site, medium string, lay media.Laying, rate, future float64, facts media.Link) float64 {
+	k := reachKey{medium: medium, laying: lay, rate: rate, future: future, link: m.eng.VerdictKey(facts)}
+	if v, ok := m.reachMemo[k]; ok {
+		return v
+	}
+	m.hold(s, 1, 0)
+	v := s.Reaches.MaxChannelMAs(m.eng, medium, lay, rate, future, facts)
+	m.reachMemo[k] = v
+	return v
+}
+
+// hold makes room in the site's memo of reaches for what the plan has asked it and reaches
+// and lays questions more (media.ReachMemo.Hold): each once, as the model's own memos ask
+// them, so that the memo drops none of them, and the next scenario of a sweep, asking them
+// in the same order, finds them.
+func (m *Model) hold(s *site.Site, reaches, lays int) {
+	s.Reaches.Hold(len(m.reachMemo)+len(m.allowedMemo)+reaches, len(m.laysMemo)+lays)
 }
 
 // layingInsideM is the leg's cable inside the buildings at the laying's transition ends
@@ -1059,12 +1093,15 @@ func firstBand(at, upM func(int) float64, last int) (int, float64) {
 	return hi, seen[hi]
 }
 
-// cableKey is what cableFor's answer depends on.
+// cableKey is what cableFor's answer depends on: the medium, the rate and the link's facts as
+// cableFor hands them to the engine, as the engine's verdicts read them
+// (media.Engine.VerdictKey: every field of the link but its ID and the names no rule reads),
+// so a fact the rules read is never left out (the 4-pair cables of a copper link were, and
+// two links of one fibre count but three and four copper cables shared a price).
 type cableKey struct {
-	medium                       string
-	rate, future, riserM, slackM float64
-	insideA, insideB             float64 // the ends' inside metres, which the rule entrance-15m judges each
-	strands                      int
+	medium string
+	rate   float64
+	link   media.LinkKey
 }
 
 // cabled is cableFor's answer.
@@ -1077,32 +1114,31 @@ type cabled struct {
 // risers and slackM of slack, and the laying it prices (media.Engine.CableLayingFor),
 // remembered per plan.
 func (m *Model) cableFor(medium string, rate float64, facts media.Link, slackM float64) (media.Laying, int64) {
-	k := cableKey{medium, rate, facts.FutureRateGbps, facts.RiserM, slackM, facts.InsideAM, facts.InsideBM, facts.Strands}
+	facts.Outdoor, facts.SlackM = true, slackM
+	k := cableKey{medium, rate, m.eng.VerdictKey(facts)}
 	if v, ok := m.cableMemo[k]; ok {
 		return v.laying, v.perM
 	}
-	facts.Outdoor, facts.SlackM = true, slackM
 	lay, perM := m.eng.CableLayingFor(medium, rate, facts)
 	m.cableMemo[k] = cabled{lay, perM}
 	return lay, perM
 }
 
 // layingKey is what lays' and layingFor's answers depend on: the medium, the laying (lays
-// only), the link's rate, strands and ends, and the span class.
+// only), the rate, and the link's facts on spans of the class as they are handed to the
+// engine (classFacts), as its verdicts read them (media.Engine.VerdictKey: every field of the
+// link but its ID and the names no rule's condition reads). A rule on an end's building
+// (end_a, end_b) so keys the ends; a key of chosen fields left them out, and a link got the
+// verdict of another with other ends.
 type layingKey struct {
-	medium           string
-	laying           media.Laying
-	rate, future     float64
-	riserM, slackM   float64
-	insideA, insideB float64
-	strands, copper  int
-	class            spanClass
+	medium string
+	laying media.Laying
+	rate   float64
+	link   media.LinkKey
 }
 
-func (m *Model) layingKeyOf(medium string, lay media.Laying, info demandInfo, c spanClass) layingKey {
-	f := info.facts
-	return layingKey{medium: medium, laying: lay, rate: info.rate, future: f.FutureRateGbps, riserM: f.RiserM, slackM: f.SlackM,
-		insideA: f.InsideAM, insideB: f.InsideBM, strands: f.Strands, copper: f.CopperCables, class: c}
+func (m *Model) layingKeyOf(medium string, lay media.Laying, rate float64, facts media.Link) layingKey {
+	return layingKey{medium: medium, laying: lay, rate: rate, link: m.eng.VerdictKey(facts)}
 }
 
 // classFacts are the link's facts on a route that leaves the buildings over spans of class c
@@ -1117,11 +1153,13 @@ func classFacts(info demandInfo, c spanClass) media.Link {
 // class c (media.Engine.Lays), remembered per plan and, across the engines of a sweep's price
 // books, by the site (media.ReachMemo.Lays).
 func (m *Model) lays(s *site.Site, medium string, lay media.Laying, info demandInfo, c spanClass) bool {
-	k := m.layingKeyOf(medium, lay, info, c)
+	facts := classFacts(info, c)
+	k := m.layingKeyOf(medium, lay, info.rate, facts)
 	if v, ok := m.laysMemo[k]; ok {
 		return v
 	}
-	v := s.Reaches.Lays(m.eng, medium, lay, info.rate, classFacts(info, c))
+	m.hold(s, 0, 1)
+	v := s.Reaches.Lays(m.eng, medium, lay, info.rate, facts)
 	m.laysMemo[k] = v
 	return v
 }
@@ -1136,11 +1174,12 @@ type laid struct {
 // the least cost, with its prices (media.Engine.LayingFor), remembered per plan; ok is false
 // when none may.
 func (m *Model) layingFor(medium string, info demandInfo, c spanClass) (l laid, ok bool) {
-	k := m.layingKeyOf(medium, media.Laying{}, info, c)
+	facts := classFacts(info, c)
+	k := m.layingKeyOf(medium, media.Laying{}, info.rate, facts)
 	if v, ok := m.layingMemo[k]; ok {
 		return v, v.laying.Construction != ""
 	}
-	l.laying, l.price, ok = m.eng.LayingFor(medium, info.rate, classFacts(info, c))
+	l.laying, l.price, ok = m.eng.LayingFor(medium, info.rate, facts)
 	m.layingMemo[k] = l
 	return l, ok
 }

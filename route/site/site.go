@@ -59,8 +59,9 @@ const solvedCacheSize = 64
 // and many more of a mid-sized one.
 const pullCacheSize = 16384
 
-// reachCacheSize bounds the media reaches a site keeps: every medium on every link of a
-// 1,000-building campus (five media), and every span class.
+// reachCacheSize is the media reaches a site keeps at first: every medium on every link of a
+// 1,000-building campus (five media), and every span class. A plan makes room for twice what
+// it asks (media.ReachMemo.Hold, from routing), so a larger campus's sweep keeps its answers.
 const reachCacheSize = 16384
 
 // Options are the noding options a site is built with, and the cap on its files.
