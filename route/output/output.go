@@ -663,11 +663,12 @@ func NewWorkParts(c estimate.Construction, length func(m float64) string) string
 }
 
 // kindNames are the words for people of each kind of new construction (estimate.NewKinds).
-var kindNames = map[string]string{geo.MethodTrench: "trench", geo.MethodBore: "directional bore",
+var kindNames = map[string]string{geo.MethodTrench: "open-cut trench", geo.MethodBore: "directional bore",
 	geo.TypeAerial: "pole line", geo.TypeTray: "cable tray", geo.TypeTunnel: "utility tunnel"}
 
 // KindName is the words for people of a kind of new construction (estimate.NewKinds):
-// "trench", "directional bore", "pole line", "cable tray", "utility tunnel".
+// "open-cut trench", "directional bore", "pole line", "cable tray", "utility tunnel" (open-cut:
+// beside "new trench", which counts the bore too, review 19 F7).
 func KindName(kind string) string {
 	if n, ok := kindNames[kind]; ok {
 		return n
@@ -677,7 +678,7 @@ func KindName(kind string) string {
 
 // NewConstructionText is the new construction by kind (estimate.Construction.ByKind) that
 // the plan builds, in the order of estimate.NewKinds, with lengths written by length:
-// "trench 156.5 m, directional bore 20.0 m, pole line 591.2 m", "" when none. The one text
+// "open-cut trench 156.5 m, directional bore 20.0 m, pole line 591.2 m", "" when none. The one text
 // of it the terminal and the report print.
 func NewConstructionText(byKind []estimate.KindM, length func(m float64) string) string {
 	var out []string
