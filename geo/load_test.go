@@ -66,7 +66,7 @@ func TestParseBad(t *testing.T) {
 		// JSON has no Infinity; 1e999 overflows a float64 (IEEE 754 binary64 max ~1.8e308).
 		{"huge_riser.geojson", `huge_riser.geojson: feature #0 "B-1": property "riser_m": want metres from 0 to 1000, got 1e999`, ErrBadValue, false},
 		// Tester 14 F5: a property spelt like riser_m, which the building lacks.
-		{"near_property.geojson", `near_property.geojson: feature #0 "B-1": property "Riser": not read: did you mean "riser_m"? Without it the building is planned with a riser of 15 m; rename the property (property names are matched exactly)`, ErrUnknownProperty, false},
+		{"near_property.geojson", `near_property.geojson: feature #0 "B-1": property "Riser_M": not read: did you mean "riser_m"? Without it the building is planned with a riser of 15 m; rename the property (property names are matched exactly)`, ErrUnknownProperty, false},
 		// Tester 14 F4: an entrance on B-2's wall that names B-1, 0.0018° of longitude (129 m at 50° N) away.
 		{"entrance_too_far.geojson", `entrance_too_far.geojson: feature #3 "E-1": property "building": entrance "E-1" is 129.1 m from the footprint of its building "B-1", farther than the longest lateral the design draws to a building (30 m, design: max_lateral_m)`, ErrBadValue, true},
 		{"entrance_too_far.geojson", `; it lies on the wall of building "B-2" (../testdata/bad/entrance_too_far.geojson feature #1): the wrong building id?`, ErrBadValue, true},

@@ -17,9 +17,13 @@ import (
 // would take the default without a word (tester 14 F5), and is answered:
 //
 //   - the property it means absent, whose default changes the plan (every property but a
-//     building's name): a problem of the file, "did you mean riser_m?", as an unknown key of
-//     a plan file is; a default taken silently where the drawing gives a value changes the
-//     bill, and the fix (rename the attribute) is the user's to make;
+//     building's name), and the name the same but for letter case and separators
+//     ("Spare_Ducts", "Riser M"): a problem of the file, "did you mean spare_ducts?", as an
+//     unknown key of a plan file is; a default taken silently where the drawing gives a value
+//     changes the bill, and the fix (rename the attribute) is the user's to make;
+//   - the same, the name near by spelling only ("riser", "spare_duct"): a warning, and nothing
+//     when the value is not of the kind the property takes (a GIS export's own "duct_id":
+//     "D-12" is no duct_mm);
 //   - the property it means absent, a name (a building's name, an entrance's id): a warning;
 //   - the property it means given with another value: a warning (which one is meant?);
 //     with the same value, nothing (an export that writes both);
@@ -175,6 +179,13 @@ func (f *feature) nearCheck() {
 			u.given = valueText(v)
 		} else if sameValue(f.props[key], f.takenFor(k)) || k == PropKind && sameValue(f.props[key], f.kind) {
 			continue // "TYPE": "duct", "Kind": "building" on a polygon: what the default gives
+		} else if foldName(key) != foldName(k) {
+			// Near by spelling only ("riser" for riser_m, but also "duct_id" for duct_mm, a GIS
+			// attribute of its own): a warning, and none when its value is not of the kind the
+			// property takes (review 20 F1: a whole campus refused for its duct_id column).
+			if !sameKind(got, f.takenFor(k)) {
+				continue
+			}
 		} else {
 			u.problem = k != PropName && k != PropID // names: an id is required but of an entrance, named by its building without one
 		}
@@ -204,6 +215,26 @@ func (f *feature) takenFor(key string) any {
 		}
 	}
 	return nil
+}
+
+// sameKind reports whether a property's value v is of the kind of the default x the reader
+// takes for another property: a number for a number, text for text, true or false for a
+// flag; true when no default is known.
+func sameKind(v, x any) bool {
+	switch x.(type) {
+	case nil:
+		return true
+	case float64, json.Number:
+		_, ok := v.(json.Number)
+		return ok
+	case string:
+		_, ok := v.(string)
+		return ok
+	case bool:
+		_, ok := v.(bool)
+		return ok
+	}
+	return true
 }
 
 // sameValue reports whether a property's value v is x, a default the reader takes (a string,
