@@ -1428,13 +1428,34 @@ func (b *builder) chordPlace(p *part, k0, k1 int, t float64) place {
 // metre of the drawn footprint).
 const entranceOffM = 1.0
 
-// entranceFarM is how far a declared entrance may lie from its building's footprint at most,
-// in metres: the longest lateral the design draws to a building (max_lateral_m), and never
-// less than entranceOffM. Farther out it cannot be a way through the building's wall that
-// the design would reach, and routes to it would leave the cable from it to the wall out of
-// the bill and the loss budget (tester 14 F4: a GIS join that gave an entrance on a street
-// 327 m away the wrong building id): planEntrance refuses it.
+// entranceFarM is how far a declared entrance may lie from its building's footprint before
+// planEntrance refuses it when another building's footprint is nearer to it, in metres: the
+// longest lateral the design draws to a building (max_lateral_m), and never less than
+// entranceOffM. Routes to such an entrance would leave the cable from it to the wall out of
+// the bill and the loss budget, and the nearer building says what the slip is (tester 14
+// F4: a GIS join that gave an entrance on a street 327 m away the wrong building id). With
+// no building nearer (an entrance at a tunnel's end some metres off the wall, a design that
+// draws short laterals) it is refused only beyond entranceStrayM, warned of below (review
+// 20 F2: max_lateral_m, a design setting, refused a campus a sweep over it planned).
 func (b *builder) entranceFarM() float64 { return max(b.maxLat, entranceOffM) }
+
+// entranceStrayM is how far a declared entrance may lie from its building's footprint at
+// most, whatever else is near: a mistyped position (common practice, no published source).
+const entranceStrayM = 100.0
+
+// nearerFoot reports whether the footprint of a building other than bi is nearer than d to xy.
+func (b *builder) nearerFoot(bi int, xy vec, d float64) bool {
+	for i := range b.feet {
+		f := &b.feet[i]
+		if i == bi || f.empty() || xy.x < f.lo.x-d || xy.x > f.hi.x+d || xy.y < f.lo.y-d || xy.y > f.hi.y+d {
+			continue
+		}
+		if f.distTo(xy) < d {
+			return true
+		}
+	}
+	return false
+}
 
 // entranceSlip names the likely slip of an entrance at xy too far from building bi: the
 // building whose footprint it lies on, or nearest within entranceFarM (the wrong building
@@ -1481,7 +1502,7 @@ func (b *builder) planEntrance(bi int, bl Building, ents []int) accessPlan {
 		// as outside plant (route, cable, trench): say so too.
 		for _, ei := range ents {
 			xy, e := b.mem[b.entMem[ei]].xy, b.c.Entrances[ei]
-			if d := f.distTo(xy); d > b.entranceFarM() {
+			if d := f.distTo(xy); d > max(b.entranceFarM(), entranceStrayM) || (d > b.entranceFarM() && b.nearerFoot(bi, xy, d)) {
 				b.add(e.Source, b.entIDs[ei], PropBuilding, problemf(ErrBadValue,
 					"entrance %q is %.1f m from the footprint of its building %q, farther than the longest lateral the design draws to a building (%s m, design: max_lateral_m): an entrance is where cable goes through its building's wall, and routes to this one would end %.1f m short of it%s",
 					b.entIDs[ei], d, bl.ID, fmtM(b.entranceFarM()), d, b.entranceSlip(bi, xy)))

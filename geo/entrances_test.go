@@ -304,3 +304,27 @@ func TestEntranceTooFar(t *testing.T) {
 		t.Errorf("max_lateral_m 120: no warning of HALL-Y in %+v", n.Warnings)
 	}
 }
+
+// TestEntranceOffWallShortLaterals (review 20 F2): an entrance 7.2 m off its building's wall,
+// at a tunnel's end, with no other building near, is warned of, not refused, when the design
+// draws laterals of at most 5 m: max_lateral_m is a design setting a sweep may vary, and the
+// slip the refusal is for (another building's id) would put another footprint nearer.
+func TestEntranceOffWallShortLaterals(t *testing.T) {
+	t.Parallel()
+	c := Campus{
+		Buildings: []Building{box("HALL", 0, 0, 10), box("KILN", 200, 0, 10)},
+		Pathways:  []Pathway{pw("T", ml(-100, -17.2, 300, -17.2))},
+		Entrances: []Entrance{{Source: Source{File: "t.geojson", Index: 3}, ID: "HALL-T", Building: "HALL", Point: at(0, -17.2)}},
+	}
+	n, err := Build(&c, Options{MaxLateralM: 5})
+	if err != nil {
+		t.Fatalf("max_lateral_m 5: %v", err)
+	}
+	warned := false
+	for _, w := range n.Warnings {
+		warned = warned || strings.Contains(w.Message, `entrance "HALL-T" of building "HALL" is 7.2 m from the building's footprint`)
+	}
+	if !warned {
+		t.Errorf("no warning of HALL-T 7.2 m off its wall: %v", n.Warnings)
+	}
+}
