@@ -138,7 +138,7 @@ type Design struct {
 	MaxLateralM        float64 `yaml:"max_lateral_m"`
 	SnapM              float64 `yaml:"snap_m"`
 	SlackM             float64 `yaml:"slack_m"`        // slack per link end, in metres
-	PairLossDB         float64 `yaml:"pair_loss_db"`   // design loss per mated connector pair; 0 = catalog (TIA-568.3-D 0.75 dB)
+	PairLossDB         float64 `yaml:"pair_loss_db"`   // design loss per mated connector pair; 0 = catalog (design_pair_db, 0.5 dB; TIA-568.3-D allows 0.75)
 	SpliceLossDB       float64 `yaml:"splice_loss_db"` // design loss per splice; 0 = catalog (TIA-568.3-D 0.3 dB)
 	// Termination is how fibre strands are terminated: media.TerminationSplicedPigtail,
 	// TerminationFieldConnector or TerminationFactory; "" = what the price book's termination
