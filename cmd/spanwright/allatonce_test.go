@@ -320,14 +320,14 @@ func TestSkippedCutOffBuilding(t *testing.T) {
 // all at once"), not a standard's.
 func TestPlanNamesWithCampusProblems(t *testing.T) {
 	dir := starterWith(t)
-	editFile(t, dir, "campus.geojson", `"id":"LAB",`, `"id":"LAB","riser":40,`)
+	editFile(t, dir, "campus.geojson", `"id":"LAB",`, `"id":"LAB","Riser_M":40,`)
 	editFile(t, dir, "plan.yaml", "hub: HALL ", "hub: hall ")
 	editFile(t, dir, "plan.yaml", "  - {to: MAST, rate: 1G}", "  - {to: MAST, rate: 1G}\n  - {to: GHOST}")
 	plan, campus := filepath.Join(dir, "plan.yaml"), filepath.Join(dir, "campus.geojson")
 	want := []string{
 		plan + `:9:6: hub: want the id of a building, got "hall", which no building has; did you mean "HALL" (` + campus + ` feature #0)? (letter case matters)`,
 		plan + `:19:10: links[2].to: want the id of a building, got "GHOST", which no building has`,
-		campus + `: feature #1 "LAB": property "riser": not read: did you mean "riser_m"? Without it the building is planned with a riser of 15 m; rename the property (property names are matched exactly)`,
+		campus + `: feature #1 "LAB": property "Riser_M": not read: did you mean "riser_m"? Without it the building is planned with a riser of 15 m; rename the property (property names are matched exactly)`,
 	}
 	out := filepath.Join(dir, "out")
 	planAndCheckRefused(t, plan, out, want)
