@@ -497,7 +497,7 @@ func TestNearProperties(t *testing.T) {
 		`"properties":{"id":"B2","riser_m":12,"Riser_m":14},`+sq(1),
 		`"properties":{"id":"B3","riser_m":12,"Riser_m":12,"Kind":"building"},`+sq(2),
 		`"id":7,"properties":{"ID":"B4"},`+sq(3),
-		`"id":"B5","properties":{"ID":"B5","OBJECTID":5,"fid":5,"Shape_Length":88.2,"Shape_Area":410.5,"TYPE":"lecture","address":"1 Quarry Lane","height_m":14,"floors":3,"rooms":40,"roof":"flat","duct":"none","state":"ok","names":null,"Role":""},`+sq(4),
+		`"id":"B5","properties":{"ID":"B5","OBJECTID":5,"fid":5,"Shape_Length":88.2,"Shape_Area":410.5,"TYPE":"teaching","address":"1 Quarry Lane","height_m":14,"floors":3,"rooms":40,"roof":"flat","duct":"none","state":"ok","names":null,"Role":""},`+sq(4),
 		`"properties":{"id":"P1","Type":"duct","TYPE":"duct","surface_type":"asphalt","owner":"estates","material":"PVC","ducts":4},`+gisLine,
 		`"properties":{"kind":"entrance","Id":"NORTH DOOR","building":"B1"},"geometry":{"type":"Point","coordinates":[10,50.0005]}`,
 	),

@@ -113,7 +113,7 @@ func Start(t testing.TB) *Server {
 	return s
 }
 
-// Timeout bounds a test's talk with the server.
+// Timeout bounds a test's exchange with the server.
 const Timeout = 60 * time.Second
 
 // Context is a context that ends with the test or after Timeout.
