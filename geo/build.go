@@ -1443,26 +1443,10 @@ func (b *builder) entranceFarM() float64 { return max(b.maxLat, entranceOffM) }
 // most, whatever else is near: a mistyped position (common practice, no published source).
 const entranceStrayM = 100.0
 
-// nearerFoot reports whether the footprint of a building other than bi is nearer than d to xy.
-func (b *builder) nearerFoot(bi int, xy vec, d float64) bool {
-	for i := range b.feet {
-		f := &b.feet[i]
-		if i == bi || f.empty() || xy.x < f.lo.x-d || xy.x > f.hi.x+d || xy.y < f.lo.y-d || xy.y > f.hi.y+d {
-			continue
-		}
-		if f.distTo(xy) < d {
-			return true
-		}
-	}
-	return false
-}
-
-// entranceSlip names the likely slip of an entrance at xy too far from building bi: the
-// building whose footprint it lies on, or nearest within entranceFarM (the wrong building
-// id); or, with none that near, a mistyped position.
-func (b *builder) entranceSlip(bi int, xy vec) string {
+// otherFoot returns the building other than bi whose footprint is nearest to xy within r
+// metres, and its distance; -1 when none is.
+func (b *builder) otherFoot(bi int, xy vec, r float64) (int, float64) {
 	best, bestD := -1, math.Inf(1)
-	r := b.entranceFarM()
 	for i := range b.feet {
 		f := &b.feet[i]
 		if i == bi || f.empty() || xy.x < f.lo.x-r || xy.x > f.hi.x+r || xy.y < f.lo.y-r || xy.y > f.hi.y+r {
@@ -1472,6 +1456,21 @@ func (b *builder) entranceSlip(bi int, xy vec) string {
 			best, bestD = i, d
 		}
 	}
+	return best, bestD
+}
+
+// nearerFoot reports whether the footprint of a building other than bi is nearer than d to xy.
+func (b *builder) nearerFoot(bi int, xy vec, d float64) bool {
+	i, di := b.otherFoot(bi, xy, d)
+	return i >= 0 && di < d
+}
+
+// entranceSlip names the likely slip of an entrance at xy too far from building bi: the
+// building whose footprint it lies on, or nearest within entranceFarM (the wrong building
+// id); or, with none that near, a mistyped position.
+func (b *builder) entranceSlip(bi int, xy vec) string {
+	r := b.entranceFarM()
+	best, bestD := b.otherFoot(bi, xy, r)
 	if best < 0 {
 		return fmt.Sprintf("; no building's footprint is within %s m of it: a mistyped position, or the wrong building id?", fmtM(r))
 	}

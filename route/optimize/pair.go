@@ -190,23 +190,26 @@ func (sv *solver) groupPair(s, t int, wt func(e int32) (int64, bool), h heuristi
 		return res.legs, true
 	}
 	// The cheapest pair that shares nothing, and the cheapest that shares only a place
-	// (Problem.Sites), kept in case no other is found.
+	// (Problem.Sites), kept in case no other is found. consider reports whether legs share
+	// nothing.
 	var best, atSite [2][]Hop
 	bestW, atSiteW := int64(math.MaxInt64), int64(math.MaxInt64)
-	consider := func(legs [2][]Hop) {
+	consider := func(legs [2][]Hop) bool {
 		if sv.sharedGroup(legs) != 0 {
-			return
+			return false
 		}
 		c0, _ := pathEval(sv.net, legs[0], wt)
 		c1, _ := pathEval(sv.net, legs[1], wt)
-		switch {
-		case sv.sharedSite(legs[:]) != 0:
+		if sv.sharedSite(legs[:]) != 0 {
 			if c0+c1 < atSiteW {
 				atSite, atSiteW = legs, c0+c1
 			}
-		case c0+c1 < bestW:
+			return false
+		}
+		if c0+c1 < bestW {
 			best, bestW = legs, c0+c1
 		}
+		return true
 	}
 	consider(res.legs)
 	// Two-step candidates: each leg of the pair and the cheapest single path, with the
@@ -257,8 +260,7 @@ func (sv *solver) groupPair(s, t int, wt func(e int32) (int64, bool), h heuristi
 			if !r.ok {
 				continue
 			}
-			consider(r.legs)
-			if sv.sharedGroup(r.legs) == 0 && sv.sharedSite(r.legs[:]) == 0 {
+			if consider(r.legs) {
 				continue
 			}
 			queue = append(queue, node{blocked: bl, legs: r.legs})
