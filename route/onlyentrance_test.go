@@ -4,6 +4,7 @@ import (
 	"strings"
 	"testing"
 
+	"spanwright/route"
 	"spanwright/route/internal/testplan"
 	"spanwright/route/internal/testsite"
 	"spanwright/route/plan"
@@ -27,6 +28,22 @@ func oneEntranceCampus(streetS string, more ...string) string {
 		handhole("H5", 300, 0), handhole("H6", 300, 100), handhole("H7", 220, 100)}, more...)...)
 }
 
+// legsTo returns the two legs of the diverse link to building to, failing the test without
+// them.
+func legsTo(t *testing.T, r *route.Result, to string) []routing.Leg {
+	t.Helper()
+	var legs []routing.Leg
+	for _, l := range r.Legs {
+		if l.Link.To == to {
+			legs = append(legs, l)
+		}
+	}
+	if len(legs) != 2 {
+		t.Fatalf("A-%s legs: %+v", to, legs)
+	}
+	return legs
+}
+
 // TestDiverseOneEntranceTap: B's only entrance is a counted lateral tapping S. The two legs
 // leave the tap along S in opposite directions, west to A's lateral LA1 and east round the
 // ring to LA2: they share the entrance, the lateral and the tap's handhole, nothing else (S's
@@ -39,15 +56,7 @@ func TestDiverseOneEntranceTap(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	var legs []routing.Leg
-	for _, l := range r.Legs {
-		if l.Link.To == "B" {
-			legs = append(legs, l)
-		}
-	}
-	if len(legs) != 2 {
-		t.Fatalf("A-B legs: %+v", legs)
-	}
+	legs := legsTo(t, r, "B")
 	for _, l := range legs {
 		if !l.Feasible || l.Cost.TotalCents() <= 0 {
 			t.Fatalf("%s leg: feasible %v, cost %d cents, reason %q; want planned and priced", l.Name, l.Feasible, l.Cost.TotalCents(), l.Reason)
@@ -201,15 +210,7 @@ func TestDiverseCountedLaterals(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	var legs []routing.Leg
-	for _, l := range r.Legs {
-		if l.Link.To == "B" {
-			legs = append(legs, l)
-		}
-	}
-	if len(legs) != 2 {
-		t.Fatalf("A-B legs: %+v", legs)
-	}
+	legs := legsTo(t, r, "B")
 	for _, l := range legs {
 		if !l.Feasible || l.Cost.TotalCents() <= 0 {
 			t.Fatalf("%s leg: feasible %v, code %q, cost %d cents, reason %q; want planned and priced", l.Name, l.Feasible, l.ReasonCode, l.Cost.TotalCents(), l.Reason)
