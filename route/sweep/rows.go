@@ -243,12 +243,14 @@ func (r *Row) value(key string) string {
 }
 
 // NewConstruction is the row's metres of new construction of kind (estimate.NewKinds);
-// false for a failed row and one of a rows file written before the figures were kept.
+// false for a failed row, one of a rows file written before the figures were kept and one
+// written before kind was (every row this version writes names every kind, 0 for none built).
 func (r *Row) NewConstruction(kind string) (float64, bool) {
-	if r.Status == StatusFailed || r.NewConstructionM == nil {
+	if r.Status == StatusFailed {
 		return 0, false
 	}
-	return r.NewConstructionM[kind], true
+	m, ok := r.NewConstructionM[kind]
+	return m, ok
 }
 
 // RowsFormat is the first field of a rows file's header line. Format 2 (with

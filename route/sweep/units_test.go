@@ -79,3 +79,28 @@ func TestMergeRefusesMixedUnits(t *testing.T) {
 		t.Errorf("merge of metric and imperial shards: %v", err)
 	}
 }
+
+// TestNewConstructionKindNotKept: a rows file written before a kind of new construction was
+// kept has no entry for it; the row reads that kind as not kept (a blank column), not as 0
+// metres built, and a row of this version, which names every kind, reads 0 as 0 (review 19
+// F8).
+func TestNewConstructionKindNotKept(t *testing.T) {
+	t.Parallel()
+	old := Row{Status: StatusOK, NewConstructionM: map[string]float64{"trench": 12.5}}
+	if m, ok := old.NewConstruction("trench"); !ok || m != 12.5 {
+		t.Errorf("trench kept: got %v, %v, want 12.5, true", m, ok)
+	}
+	if m, ok := old.NewConstruction("tunnel"); ok {
+		t.Errorf("tunnel not in the row's map: got %v, true, want not kept", m)
+	}
+	now := Row{Status: StatusOK, NewConstructionM: map[string]float64{"trench": 0, "tunnel": 0}}
+	if m, ok := now.NewConstruction("tunnel"); !ok || m != 0 {
+		t.Errorf("tunnel kept as 0: got %v, %v, want 0, true", m, ok)
+	}
+	if _, ok := (&Row{Status: StatusOK}).NewConstruction("trench"); ok {
+		t.Error("a row with no figures kept reads a kind as kept")
+	}
+	if _, ok := (&Row{Status: StatusFailed, NewConstructionM: map[string]float64{"trench": 0}}).NewConstruction("trench"); ok {
+		t.Error("a failed row reads a kind as kept")
+	}
+}
