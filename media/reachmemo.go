@@ -5,6 +5,7 @@ import (
 	"encoding/json"
 	"strings"
 	"sync"
+	"sync/atomic"
 
 	lru "github.com/hashicorp/golang-lru/v2"
 )
@@ -25,8 +26,8 @@ type ReachMemo struct {
 	answers *lru.Cache[sharedKey, float64]
 	lays    *lru.Cache[sharedKey, bool] // Lays's answers
 
-	mu                    sync.Mutex // over the sizes
-	answersSize, laysSize int        // the caches' sizes
+	mu                    sync.Mutex   // over growing the caches
+	answersSize, laysSize atomic.Int64 // the caches' sizes, read without mu
 }
 
 // laysPerReach is how many answers of Lays a ReachMemo keeps per reach it keeps.
@@ -93,7 +94,10 @@ func NewReachMemo(size int) *ReachMemo {
 	size = max(size, 1)
 	c, _ := lru.New[sharedKey, float64](size) // errs only on a size <= 0
 	l, _ := lru.New[sharedKey, bool](size * laysPerReach)
-	return &ReachMemo{answers: c, lays: l, answersSize: size, laysSize: size * laysPerReach}
+	r := &ReachMemo{answers: c, lays: l}
+	r.answersSize.Store(int64(size))
+	r.laysSize.Store(int64(size * laysPerReach))
+	return r
 }
 
 // holdPlans is how many plans' answers Hold makes room for: two, so that two scenarios of a
@@ -108,20 +112,26 @@ const holdPlans = 2
 // larger than the memo drops its own first answers before the next scenario of a sweep asks
 // them again, in the same order, and that scenario finds none: one plan of the generated
 // 5,000-building campus asks 24,361 reaches and 70,356 layings, against NewReachMemo's
-// 16,384 and 65,536. The memo never shrinks: a sweep's largest plan sets its size.
+// 16,384 and 65,536. The memo never shrinks: a sweep's largest plan sets its size. A plan
+// asks it once per new question, mostly of a memo already large enough: that is answered
+// without the lock, which only growing takes.
 func (r *ReachMemo) Hold(reaches, lays int) {
 	if r == nil {
 		return
 	}
+	wantR, wantL := int64(holdPlans*reaches), int64(holdPlans*lays)
+	if wantR <= r.answersSize.Load() && wantL <= r.laysSize.Load() {
+		return
+	}
 	r.mu.Lock()
 	defer r.mu.Unlock()
-	if n := holdPlans * reaches; n > r.answersSize {
-		r.answers.Resize(n)
-		r.answersSize = n
+	if wantR > r.answersSize.Load() {
+		r.answers.Resize(int(wantR))
+		r.answersSize.Store(wantR)
 	}
-	if n := holdPlans * lays; n > r.laysSize {
-		r.lays.Resize(n)
-		r.laysSize = n
+	if wantL > r.laysSize.Load() {
+		r.lays.Resize(int(wantL))
+		r.laysSize.Store(wantL)
 	}
 }
 
