@@ -1,13 +1,18 @@
 package route_test
 
 import (
+	"bytes"
+	"context"
 	"strings"
 	"testing"
 
+	"spanwright/media"
 	"spanwright/route"
 	"spanwright/route/internal/testplan"
 	"spanwright/route/internal/testsite"
+	"spanwright/route/output"
 	"spanwright/route/plan"
+	"spanwright/route/report"
 	"spanwright/route/routing"
 )
 
@@ -254,9 +259,41 @@ func TestDiverseAvoidsCrossingAtTap(t *testing.T) {
 		if l.ReasonCode == routing.CodeSharedPt {
 			t.Errorf("FEN's diverse leg shares a point: %s", l.Choice)
 		}
+		// What keeping off the crossing costs is said, and priced (review 19 F2): PC is the
+		// longer way round.
+		if l.CrossingAvoidedCents <= 0 || !strings.Contains(l.Choice, "kept off a junction where ducts cross") {
+			t.Errorf("FEN's diverse leg: crossing avoided %d cents, choice %q; want > 0 and said", l.CrossingAvoidedCents, l.Choice)
+		}
 		for _, st := range l.Steps {
 			if st.SpanID != "" && strings.HasPrefix(st.SpanID, "PB") {
 				t.Errorf("FEN's diverse leg takes %s, which crosses the primary's D1 with no structure", st.SpanID)
+			}
+		}
+		// The summary counts it and adds up what it costs; the terminal says it beside the
+		// diverse links.
+		s := output.Summarize(r)
+		if s.DiverseOffCrossing != 1 || s.DiverseOffCrossingCents != l.CrossingAvoidedCents {
+			t.Errorf("summary: diverse_off_crossing %d, %d cents; want 1, the leg's %d", s.DiverseOffCrossing, s.DiverseOffCrossingCents, l.CrossingAvoidedCents)
+		}
+		var term bytes.Buffer
+		if err := output.PrintSummary(&term, r, output.WriteOptions{}); err != nil {
+			t.Fatal(err)
+		}
+		want := ", 1 kept off a junction where ducts cross with no structure that a cheaper pair would share (" + media.FormatCents(l.CrossingAvoidedCents)
+		if !strings.Contains(term.String(), want) {
+			t.Errorf("terminal lacks %q:\n%s", want, term.String())
+		}
+		html, err := report.Plan(context.Background(), r, report.Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		// The report groups thousands (2,177.20): the same figure, its own format.
+		for _, want := range []string{
+			"1 kept off a junction where ducts cross with no structure that a cheaper pair would share (",
+			", nor the junctions diverse legs are kept off (",
+		} {
+			if !strings.Contains(string(html), want) {
+				t.Errorf("report lacks %q", want)
 			}
 		}
 	}

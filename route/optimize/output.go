@@ -10,6 +10,12 @@ import (
 // solution turns the final state into a Solution, splitting the cost per demand.
 func (sv *solver) solution() *Solution {
 	sv.flush()
+	avoided := make([]int64, len(sv.p.Demands))
+	for d := range sv.p.Demands {
+		if sv.p.Demands[d].Diverse {
+			avoided[d] = sv.crossingAvoided(d)
+		}
+	}
 	p, st := sv.p, sv.st
 	sol := &Solution{Routes: make([]Route, len(p.Demands)), Rounds: sv.rounds, LowerBoundCents: sv.planBound(), StartUnused: sv.startUnused,
 		StartNoRoom: sv.startNoRoom}
@@ -45,6 +51,7 @@ func (sv *solver) solution() *Solution {
 		r.Primary = legs[0]
 		if len(legs) == 2 {
 			r.Secondary = legs[1]
+			r.CrossingAvoidedCents = avoided[d]
 		} else if dm.Diverse {
 			r.SinglePoint, r.Note = sv.singlePoint(d, c.opt)
 		}

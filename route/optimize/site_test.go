@@ -39,24 +39,30 @@ func TestPairAvoidsSharedPlace(t *testing.T) {
 		t.Errorf("with a third way: total %d cents, want 14000 (one leg through X, one by node 8)", sol.TotalCents)
 	}
 	r := sol.Routes[0]
-	for _, leg := range []Leg{r.Primary, r.Secondary} {
-		if slices.Contains(leg.Nodes(siteProblem(true).Edges), 8) {
-			return
-		}
+	// What keeping off the crossing costs: the pair through X weighs 8000 cents (the plans
+	// without Sites and without a third way below), this one 14000.
+	if r.CrossingAvoidedCents != 6000 {
+		t.Errorf("with a third way: crossing avoided %d cents, want 14000 - 8000 = 6000", r.CrossingAvoidedCents)
 	}
-	t.Errorf("with a third way: legs %v and %v, want one by node 8", r.Primary.Nodes(siteProblem(true).Edges), r.Secondary.Nodes(siteProblem(true).Edges))
+	byEight := false
+	for _, leg := range []Leg{r.Primary, r.Secondary} {
+		byEight = byEight || slices.Contains(leg.Nodes(siteProblem(true).Edges), 8)
+	}
+	if !byEight {
+		t.Errorf("with a third way: legs %v and %v, want one by node 8", r.Primary.Nodes(siteProblem(true).Edges), r.Secondary.Nodes(siteProblem(true).Edges))
+	}
 
 	// Without Sites the crossing is two nodes, and the cheaper pair through both is taken.
 	p := siteProblem(true)
 	p.Sites = nil
-	if sol := solveOK(t, "no sites", p); sol.TotalCents != 8000 {
-		t.Errorf("without sites: total %d cents, want 8000", sol.TotalCents)
+	if sol := solveOK(t, "no sites", p); sol.TotalCents != 8000 || sol.Routes[0].CrossingAvoidedCents != 0 {
+		t.Errorf("without sites: total %d cents, crossing avoided %d, want 8000 and 0", sol.TotalCents, sol.Routes[0].CrossingAvoidedCents)
 	}
 
 	sol = solveOK(t, "no third way", siteProblem(false))
-	if sol.TotalCents != 8000 || len(sol.Routes[0].Secondary.Hops) == 0 {
-		t.Errorf("without a third way: total %d cents, secondary %d hops; want 8000 and the pair through X kept",
-			sol.TotalCents, len(sol.Routes[0].Secondary.Hops))
+	if sol.TotalCents != 8000 || len(sol.Routes[0].Secondary.Hops) == 0 || sol.Routes[0].CrossingAvoidedCents != 0 {
+		t.Errorf("without a third way: total %d cents, secondary %d hops, crossing avoided %d; want 8000, the pair through X kept, 0",
+			sol.TotalCents, len(sol.Routes[0].Secondary.Hops), sol.Routes[0].CrossingAvoidedCents)
 	}
 }
 
@@ -65,7 +71,7 @@ func TestPairAvoidsSharedPlaceAnyOrder(t *testing.T) {
 	t.Parallel()
 	p := siteProblem(true)
 	slices.Reverse(p.Edges)
-	if sol := solveOK(t, "reversed", p); sol.TotalCents != 14000 {
-		t.Errorf("edges reversed: total %d cents, want 14000", sol.TotalCents)
+	if sol := solveOK(t, "reversed", p); sol.TotalCents != 14000 || sol.Routes[0].CrossingAvoidedCents != 6000 {
+		t.Errorf("edges reversed: total %d cents, crossing avoided %d, want 14000 and 6000", sol.TotalCents, sol.Routes[0].CrossingAvoidedCents)
 	}
 }

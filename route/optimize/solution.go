@@ -96,6 +96,12 @@ type Route struct {
 	SinglePoint *SinglePoint
 	// Note says, for a Diverse demand without Secondary, why (e.g. "every route passes node 7").
 	Note string
+	// CrossingAvoidedCents is, for a Diverse demand with Secondary, what keeping its legs off a
+	// shared place (Problem.Sites) costs against the final plan, in the objective's cents: its
+	// pair's weight less that of the cheapest pair within reach found when places are not
+	// counted, which passes one; 0 when that pair would pass none or weigh no less. Its pair
+	// is weighed as a reroute would weigh it (the demand out of the plan).
+	CrossingAvoidedCents int64
 
 	Cost Breakdown
 }

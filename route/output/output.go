@@ -477,6 +477,13 @@ type Summary struct {
 	// ducts cross with no structure): reason_code SPOF on the diverse leg
 	// (routing.CodeSharedPt). The terminal and the report print it beside DiverseLinks.
 	DiverseSinglePoint int `json:"diverse_single_point"`
+	// DiverseOffCrossing counts, of DiverseLinks, those whose legs are kept off a junction
+	// where ducts cross with no structure that a cheaper pair would share, and
+	// DiverseOffCrossingCents what that costs, by the optimizer's objective (the legs'
+	// routing.Leg.CrossingAvoidedCents, each against the final plan): part of ObjectiveCents
+	// the lower bound, which does not know such places, cannot see.
+	DiverseOffCrossing      int   `json:"diverse_off_crossing"`
+	DiverseOffCrossingCents int64 `json:"diverse_off_crossing_cents"`
 	// CrossingLegs counts the feasible legs whose route passes through a building (in at one
 	// entrance, out at another); TurnHandholes the junctions, each once, where a feasible
 	// leg turns between pathways at a handhole the plan adds for that alone (one also for new
@@ -752,6 +759,10 @@ func Summarize(r *route.Result) Summary {
 		if l.Name == routing.LegDiverse && l.ReasonCode == routing.CodeSharedPt {
 			sharedPoint[l.Link.ID] = true
 		}
+		if l.CrossingAvoidedCents > 0 {
+			s.DiverseOffCrossing++
+			s.DiverseOffCrossingCents += l.CrossingAvoidedCents
+		}
 		if len(l.Crosses) > 0 {
 			s.CrossingLegs++
 		}
@@ -951,16 +962,20 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 		if s.CablesPerDuct > 0 {
 			countToo = " and for the count of pulls a duct"
 		}
+		cur := ""
+		if s.Currency != "" {
+			cur = " " + t(s.Currency)
+		}
 		closed := ""
 		switch {
 		case s.GapPct != nil && *s.GapPct <= 1e-7:
 			closed = " (proved optimal)"
 		case s.GapPct != nil && *s.GapPct > wideGapPct:
-			closed = " (no plan of these legs costs less than the bound; a gap this wide usually means a weak bound rather than poor routes: the bound leaves out duct capacity, so the ducts and trench added for fill" + countToo + " are not in it)"
-		}
-		cur := ""
-		if s.Currency != "" {
-			cur = " " + t(s.Currency)
+			crossing := ""
+			if s.DiverseOffCrossing > 0 {
+				crossing = ", nor the junctions diverse legs are kept off (" + media.FormatCents(s.DiverseOffCrossingCents) + cur + " above)"
+			}
+			closed = " (no plan of these legs costs less than the bound; a gap this wide usually means a weak bound rather than poor routes: the bound leaves out duct capacity, so the ducts and trench added for fill" + countToo + " are not in it" + crossing + ")"
 		}
 		fmt.Fprintf(w, "optimizer: routes %s%s by the optimizer's objective, proved lower bound %s%s, gap %s%s\n",
 			media.FormatCents(s.ObjectiveCents), cur, media.FormatCents(*s.LowerBoundCents), cur, GapText(s.GapPct), closed)
@@ -1104,6 +1119,14 @@ func diverseLine(s Summary) string {
 	line := fmt.Sprintf("diverse links: %d with two routes", s.DiverseLinks)
 	if s.DiverseSinglePoint > 0 {
 		line += fmt.Sprintf(", %d of them sharing a single point of failure (reason_code %s in links.csv)", s.DiverseSinglePoint, routing.CodeSharedPt)
+	}
+	if s.DiverseOffCrossing > 0 {
+		cur := ""
+		if s.Currency != "" {
+			cur = " " + escape.Terminal(s.Currency)
+		}
+		line += fmt.Sprintf(", %d kept off a junction where ducts cross with no structure that a cheaper pair would share (%s%s more by the optimizer's objective)",
+			s.DiverseOffCrossing, media.FormatCents(s.DiverseOffCrossingCents), cur)
 	}
 	if s.DiverseShort > 0 {
 		line += fmt.Sprintf("; %d lacking a diverse route", s.DiverseShort)

@@ -268,7 +268,10 @@ type planView struct {
 	// routes to it in percent (output.Summary.LowerBoundCents, GapPct, as output.GapText
 	// prints it); Bound is "" without a bound.
 	Objective, Bound, Gap string
-	Warnings              []string
+	// OffCrossing is what keeping diverse legs off junctions where ducts cross with no
+	// structure costs by the optimizer's objective (output.Summary.DiverseOffCrossingCents).
+	OffCrossing string
+	Warnings    []string
 	// Notes are the plan's notes (route.Result.Notes: the plan's own, such as a link entry a
 	// sweep carried to another hub, a links entry dropped for the hub, a warm start's routes
 	// placed afresh), and StartedFrom the plan folder its search began
@@ -559,6 +562,7 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 	}
 	v.Fill, v.FillOver, v.FillOpen, v.FillListed = fillRows(r)
 	v.ModelCost = money(s.ModelCents)
+	v.OffCrossing = money(s.DiverseOffCrossingCents)
 	if s.LowerBoundCents != nil {
 		v.Objective, v.Bound, v.Gap = money(s.ObjectiveCents), money(*s.LowerBoundCents), output.GapText(s.GapPct)
 	}

@@ -90,6 +90,12 @@ type Leg struct {
 	// splices between them, which the loss budget counts (see CableTakeoff).
 	Cable CableTakeoff
 
+	// CrossingAvoidedCents is, on a diverse leg, what keeping the link's two legs off a
+	// junction drawn as several nodes (ducts crossing with no structure), which a cheaper pair
+	// would share, costs by the optimizer's objective (optimize.Route.CrossingAvoidedCents);
+	// 0 on a primary leg and when no cheaper pair would share one.
+	CrossingAvoidedCents int64
+
 	// Option is the optimizer's option the leg was routed in (optimize.Option.Name: its
 	// medium, and how it priced the cable when the medium has several; routing's optionName).
 	Option string
@@ -173,6 +179,9 @@ func legsOf(s *site.Site, cm *Model, lay *layout, prob *optimize.Problem, rt *op
 			if shared := sharedJunctions(s, &primary, &d); len(shared) > 0 && d.Feasible {
 				d.Choice += fmt.Sprintf("; both legs pass junction %s, where their ducts cross with no structure: a single point of failure", strings.Join(shared, ", "))
 				d.ReasonCode = CodeSharedPt
+			} else if rt.CrossingAvoidedCents > 0 && d.Feasible {
+				d.CrossingAvoidedCents = rt.CrossingAvoidedCents
+				d.Choice += "; the legs are kept off a junction where ducts cross with no structure, which a cheaper pair would share"
 			}
 		} else {
 			why := onlyWayIn(s, cm, lay, prob, l, rt.SinglePoint)
