@@ -829,11 +829,33 @@ func (b *builder) lateralDoors(bi int, f *footprint, nearest place) {
 		byRun[r] = append(byRun[r], s)
 	}
 	runs := slices.Sorted(maps.Keys(byRun))
+	xy := func(pl place) vec {
+		sr := b.segs[pl.seg]
+		p := &b.parts[sr.part]
+		return lerp(p.xy[sr.i], p.xy[sr.i+1], pl.t)
+	}
 	var places []place
 	for _, r := range runs {
 		b.buf = byRun[r]
-		if pl, _ := b.lateralPlace(f, ""); pl.seg >= 0 && pl.d <= b.maxLat {
-			places = append(places, pl)
+		pl, _ := b.lateralPlace(f, "")
+		if pl.seg < 0 || pl.d > b.maxLat {
+			continue
+		}
+		places = append(places, pl)
+		// Every other pole of the run about as near (lateralTieM) is a way in too: of two
+		// poles equally far from the building, the one the lateral came down would follow the
+		// line's drawing direction or a millimetre (tester 15 F1: 50 m of route on one link).
+		at := []vec{xy(pl)}
+		for _, s := range byRun[r] {
+			if b.c.Pathways[b.parts[b.segs[s].part].pw].Type != TypeAerial {
+				continue
+			}
+			b.polesOf(s, func(c place, p vec) {
+				if c.d = f.distTo(p); c.d <= min(pl.d+lateralTieM, b.maxLat) && !slices.Contains(at, p) {
+					at = append(at, p)
+					places = append(places, c)
+				}
+			})
 		}
 	}
 	b.buf = all
@@ -843,11 +865,6 @@ func (b *builder) lateralDoors(bi int, f *footprint, nearest place) {
 	// The access plan: the nearest to the millimetre, then the place nearest the footprint's
 	// centre, then the place west, then south, first (never the pathways' ids).
 	centre := lerp(f.lo, f.hi, 0.5)
-	xy := func(pl place) vec {
-		sr := b.segs[pl.seg]
-		p := &b.parts[sr.part]
-		return lerp(p.xy[sr.i], p.xy[sr.i+1], pl.t)
-	}
 	mm := func(m float64) float64 { return math.Round(m * 1000) }
 	first := 0
 	for i, pl := range places {
@@ -1351,26 +1368,35 @@ func (b *builder) nearestPole(ids []int32, dist func(vec) float64, segDist func(
 			}
 			missPw, missD = p.pw, d
 		}
-		for _, v := range [2]int{sr.i, sr.i + 1} {
-			if b.wallEnd(p, v) {
-				continue
-			}
-			if v == len(p.xy)-1 {
-				try(place{seg: p.s0 + v - 1, t: 1}, p.xy[v])
-			} else {
-				try(place{seg: p.s0 + v, t: 0}, p.xy[v])
-			}
-		}
-		for _, m := range b.splits[sr.part] {
-			if mm := b.mem[m]; mm.seg == sr.i && b.poleJoin(m) {
-				try(place{seg: int(s), t: mm.t}, mm.xy)
-			}
-		}
+		b.polesOf(s, try)
 	}
 	if missPw >= 0 {
 		miss = poleMiss{pw: b.c.Pathways[missPw].ID, pwi: missPw, spanM: missD, poleM: missPole, dist: dist}
 	}
 	return best, miss
+}
+
+// polesOf calls fn with each pole of pole-line segment s (nearestPole: its vertices but an end
+// on a wall, and where another line or a structure joins it between them) and where it
+// stands. A pole at a vertex is offered by both segments that meet there.
+func (b *builder) polesOf(s int32, fn func(c place, xy vec)) {
+	sr := b.segs[s]
+	p := &b.parts[sr.part]
+	for _, v := range [2]int{sr.i, sr.i + 1} {
+		if b.wallEnd(p, v) {
+			continue
+		}
+		if v == len(p.xy)-1 {
+			fn(place{seg: p.s0 + v - 1, t: 1}, p.xy[v])
+		} else {
+			fn(place{seg: p.s0 + v, t: 0}, p.xy[v])
+		}
+	}
+	for _, m := range b.splits[sr.part] {
+		if mm := b.mem[m]; mm.seg == sr.i && b.poleJoin(m) {
+			fn(place{seg: int(s), t: mm.t}, mm.xy)
+		}
+	}
 }
 
 // wallEnd reports whether vertex v of part p is an end of its line on or within SnapM of a

@@ -374,3 +374,59 @@ func TestLateralEveryRunWithinReach(t *testing.T) {
 		}
 	}
 }
+
+// TestLateralPolesAboutAsNear: building B stands midway between two poles of a pole line (a
+// pole at every vertex, 50 m apart), 23.4 m from each. A counted lateral comes down a pole,
+// and which of the two would have followed the line's drawing direction or a millimetre's
+// move of B (tester 15 F1: 50 m of route on one link); each pole about as near as the
+// nearest (lateralTieM) is a way in of its own, priced by its length, and the optimizer
+// chooses by cost. Drawn the other way, or B moved 1 mm east or west, the ways in are the
+// same. Moved 2 m east, the far pole is 2.6 m farther and is no way in. The distances are
+// common practice, no published source.
+func TestLateralPolesAboutAsNear(t *testing.T) {
+	t.Parallel()
+	campus := func(dxM float64, reversed bool) *Campus {
+		line := ml(-100, 0, -50, 0, 0, 0, 50, 0, 100, 0)
+		if reversed {
+			slices.Reverse(line)
+		}
+		p := pw("PL", line)
+		p.Type = TypeAerial
+		return &Campus{Buildings: []Building{box("B", 25+dxM, 28, 10)}, Pathways: []Pathway{p}}
+	}
+	es := entryPoints(t, build(t, campus(0, false)), "B")
+	if len(es) != 2 {
+		t.Fatalf("B's entrances %+v; want two counted laterals, down the poles at x = 0 and x = 50", es)
+	}
+	for _, e := range es {
+		// √(15² + 18²) = 23.43 m on the test's plane; geodesic lengths (at) within 1 %
+		if e.via != ViaLateral || math.Abs(float64(e.lateralC)-2343) > 23 {
+			t.Errorf("B's entrance %+v; want a counted lateral of 23.43 m", e)
+		}
+	}
+	if d := DistanceM(es[0].at, es[1].at); math.Abs(d-50) > 0.5 {
+		t.Errorf("B's ways in %.2f m apart, want the two poles, 50 m", d)
+	}
+	const mm = 1e-3
+	for _, c := range []struct {
+		name     string
+		dx       float64
+		reversed bool
+	}{{"drawn the other way", 0, true}, {"1 mm east", mm, false}, {"1 mm west", -mm, false}, {"1 mm east, drawn the other way", mm, true}} {
+		got := entryPoints(t, build(t, campus(c.dx, c.reversed)), "B")
+		if len(got) != 2 {
+			t.Errorf("%s: entrances %+v, want two", c.name, got)
+			continue
+		}
+		for _, g := range got {
+			if !slices.ContainsFunc(es, func(e entryPoint) bool {
+				return DistanceM(g.at, e.at) < 2*mm && math.Abs(float64(g.lateralC-e.lateralC)) <= 1
+			}) {
+				t.Errorf("%s: entrance %+v, want one of %+v", c.name, g, es)
+			}
+		}
+	}
+	if got := entryPoints(t, build(t, campus(2, false)), "B"); len(got) != 1 {
+		t.Errorf("B moved 2 m east: entrances %+v, want one, down the pole at x = 50", got)
+	}
+}
