@@ -1189,11 +1189,33 @@ func (e *Engine) reason(l Link, win *candidate, ok, all []*candidate, laid bool)
 	} else {
 		fmt.Fprintf(&b, ", within its %s m reach", formatNum(win.r.RangeM))
 	}
+	b.WriteString(futureText(l, win))
 	for _, why := range e.refusedApps(l, win, ok, all) {
 		b.WriteString("; ")
 		b.WriteString(why)
 	}
 	return b.String(), code
+}
+
+// futureText says, for a link planned for a future rate (Link.FutureRateGbps), which
+// application at that rate the winner was judged ready for (future) and its loss margin on
+// fibre, or its reach on copper, or, when the catalog's future-rate rule was lifted, why it
+// is not ready: "; ready for 100G: 100GBASE-LR4, margin 3.20 dB". "" without a future rate.
+func futureText(l Link, win *candidate) string {
+	if l.FutureRateGbps <= 0 {
+		return ""
+	}
+	f := &win.f
+	rate := FormatRate(l.FutureRateGbps)
+	app := f[fFutureApplication].str
+	switch {
+	case !f[fFutureFits].b:
+		return fmt.Sprintf("; not ready for %s: %s", rate, f[fFutureNote].str)
+	case win.m.Fibre():
+		return fmt.Sprintf("; ready for %s: %s, margin %s dB", rate, app, formatNum(f[fFutureMarginDB].num))
+	default:
+		return fmt.Sprintf("; ready for %s: %s, within its %s m reach", rate, app, formatNum(f[fFutureReachM].num))
+	}
 }
 
 // refusedApps says, for each other application at the link's rate on the winner's medium

@@ -203,6 +203,10 @@ func TestChoose(t *testing.T) {
 			// Clause 86, seen); OM4's closes no budget with two 0.75 dB pairs (computed)
 			name: "future rate", link: Link{RouteM: 100, RiserM: 10, SlackM: 10, RateGbps: 10, FutureRateGbps: 40, ConnectorPairs: 2, Strands: 12},
 			opt: tiaMaxima(0), wantFeasible: true, wantMedium: "os2", wantApp: "10GBASE-LR",
+			// Which 40G application it is ready for, and its margin (tester 15 F11): 40GBASE-LR4
+			// allows 6.7 dB (IEEE 802.3 Clause 87, from memory), the channel loses 0.12 km x
+			// 1.0 dB/km + 2 x 0.75 = 1.62 dB (ANSI/TIA-568.3-D maxima, as tiaMaxima sets them).
+			wantReason: []string{"; ready for 40G: 40GBASE-LR4, margin 5.08 dB"},
 			wantRejected: []string{
 				"om3 rejected by future-rate: it cannot carry the future rate of 40 Gb/s over 120 m: 40GBASE-SR4 reaches 100 m",
 				"om4 rejected by future-rate: it cannot carry the future rate of 40 Gb/s over 120 m: 40GBASE-SR4 leaves a loss margin of -0.42 dB, below the required 0 dB",
@@ -216,6 +220,13 @@ func TestChoose(t *testing.T) {
 			name: "future rate copper has no application", link: Link{RouteM: 40, RateGbps: 10, FutureRateGbps: 40, ConnectorPairs: 2, Strands: 1},
 			wantFeasible: true, wantMedium: "os2",
 			wantRejected: []string{"cat6a rejected by future-rate: it cannot carry the future rate of 40 Gb/s over 40 m: no application at 40G runs on cat6a"},
+		},
+		{
+			// Copper ready for 10G later: 10GBASE-T reaches 100 m on Category 6A (IEEE 802.3
+			// Clause 55, seen; ANSI/TIA-568.2-D channel).
+			name: "future rate copper ready", link: Link{RouteM: 40, RateGbps: 1, FutureRateGbps: 10, ConnectorPairs: 2, Strands: 1},
+			wantFeasible: true, wantMedium: "cat6a", wantApp: "1000BASE-T",
+			wantReason: []string{"; ready for 10G: 10GBASE-T, within its 100 m reach"},
 		},
 		{
 			name: "prefer rule outranks cost", link: indoor(50), rules: "prefer_sm.yaml",
