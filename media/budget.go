@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strings"
 )
 
 // Default copper cords: ANSI/TIA-568.2's 100 m channel is a 90 m permanent link plus up to
@@ -42,48 +43,140 @@ func (e *Engine) repairSplices(m *Medium, outM float64) int {
 	return int(math.Ceil(outM/1000*e.margins.RepairSplicesPerKm - 1e-9))
 }
 
-// classMargin is the catalog's margin of medium m's class and its name in reasons; ok is
-// false for copper.
-func (e *Engine) classMargin(m *Medium) (db float64, name string, ok bool) {
+// classMargin is the catalog's fixed extra margin of medium m's class and the class's name in
+// words; ok is false for copper.
+func (e *Engine) classMargin(m *Medium) (db float64, class string, ok bool) {
 	switch m.Kind {
 	case KindMultimode:
-		return e.margins.MultimodeDB, "the catalog's multimode margin", true
+		return e.margins.MultimodeDB, "multimode", true
 	case KindSinglemode:
-		return e.margins.SinglemodeDB, "the catalog's single-mode margin", true
+		return e.margins.SinglemodeDB, "single-mode", true
 	}
 	return 0, "", false
 }
 
-// requiredMarginDB is the margin a fibre link on medium m with repair repair splices keeps:
-// its class's margin and the repair splices at the design splice loss, or the plan's margin
-// when that is larger (the plan's loss_margin_db is the least margin of every fibre link).
-func (e *Engine) requiredMarginDB(m *Medium, repair int) float64 {
-	class, _, ok := e.classMargin(m)
+// marginParts is what the margin a fibre channel keeps is made of: the one rule, which
+// Engine.marginOf applies and both the loss budget (Choose) and the optimizer's reach
+// (MaxChannelM, budgetPoints) read. A channel built of parts at their ANSI/TIA-568.3-D maxima
+// must still close its application's budget, so the margin holds, for each of the channel's
+// mated pairs and splices, what the part may lose at that maximum beyond the design loss the
+// budget counts (never less than nothing), the repair splices of the policy, each at the
+// larger of its design and maximum loss, and the class's fixed extra from the catalog; or the
+// plan's loss_margin_db when that is larger. The cabled attenuation needs no part: the budget
+// counts it at the construction's maximum already.
+type marginParts struct {
+	pairs, splices, repair int
+	pairGapDB, spliceGapDB float64 // per part: max(0, ANSI/TIA-568.3-D maximum − design loss)
+	repairDB               float64 // per repair splice
+	extraDB                float64 // the catalog's margin of the class (margins.multimode_db, singlemode_db)
+	class                  string  // "multimode" or "single-mode"
+	floorDB                float64 // the plan's loss_margin_db
+}
+
+// marginOf is the margin parts of a fibre channel on medium m with pairs mated pairs, splices
+// splices and repair repair splices; ok is false for copper, which keeps none.
+func (e *Engine) marginOf(m *Medium, pairs, splices, repair int) (marginParts, bool) {
+	extra, class, ok := e.classMargin(m)
+	if !ok {
+		return marginParts{}, false
+	}
+	return marginParts{pairs: pairs, splices: splices, repair: repair,
+		pairGapDB:   max(0, e.field.PairDB-e.design.PairDB),
+		spliceGapDB: max(0, e.field.SpliceDB-e.design.SpliceDB),
+		repairDB:    max(e.design.SpliceDB, e.field.SpliceDB),
+		extraDB:     extra, class: class, floorDB: e.opt.LossMarginDB}, true
+}
+
+// policyDB is the margin the parts ask for without the plan's floor, in dB.
+func (p marginParts) policyDB() float64 {
+	return roundDB(float64(p.pairs)*p.pairGapDB + float64(p.splices)*p.spliceGapDB + float64(p.repair)*p.repairDB + p.extraDB)
+}
+
+// db is the required margin, in dB: the policy's, or the plan's floor when larger.
+func (p marginParts) db() float64 { return roundDB(max(p.policyDB(), p.floorDB)) }
+
+// basis says in words what db is made of, for reasons and loss budgets: "the plan's
+// loss_margin_db" when the floor is the larger; otherwise each part that is not nothing, e.g.
+// "2 mated pairs × 0.25 dB to the TIA-568.3-D maxima + 3 repair splices × 0.3 dB".
+func (p marginParts) basis() string {
+	if p.floorDB > p.policyDB() {
+		return "the plan's loss_margin_db"
+	}
+	var gaps, parts []string
+	count := func(n int, one, many string) string {
+		if n == 1 {
+			return "1 " + one
+		}
+		return fmt.Sprintf("%d %s", n, many)
+	}
+	if p.pairs > 0 && p.pairGapDB > 0 {
+		gaps = append(gaps, fmt.Sprintf("%s × %s dB", count(p.pairs, "mated pair", "mated pairs"), formatNum(roundDB(p.pairGapDB))))
+	}
+	if p.splices > 0 && p.spliceGapDB > 0 {
+		gaps = append(gaps, fmt.Sprintf("%s × %s dB", count(p.splices, "splice", "splices"), formatNum(roundDB(p.spliceGapDB))))
+	}
+	if len(gaps) > 0 {
+		parts = append(parts, strings.Join(gaps, " + ")+" to the TIA-568.3-D maxima")
+	}
+	if p.repair > 0 && p.repairDB > 0 {
+		parts = append(parts, fmt.Sprintf("%s × %s dB", count(p.repair, "repair splice", "repair splices"), formatNum(roundDB(p.repairDB))))
+	}
+	if p.extraDB > 0 {
+		parts = append(parts, fmt.Sprintf("the catalog's %s %s dB", p.class, formatNum(p.extraDB)))
+	}
+	if len(parts) == 0 {
+		return "none: no part is designed below its TIA-568.3-D maximum"
+	}
+	return strings.Join(parts, " + ")
+}
+
+// requiredMarginDB is the margin a fibre channel on medium m with pairs mated pairs, splices
+// splices and repair repair splices keeps, in dB (marginParts); 0 for copper.
+func (e *Engine) requiredMarginDB(m *Medium, pairs, splices, repair int) float64 {
+	p, ok := e.marginOf(m, pairs, splices, repair)
 	if !ok {
 		return 0
 	}
-	return roundDB(max(class+float64(repair)*e.design.SpliceDB, e.opt.LossMarginDB))
+	return p.db()
 }
 
-// marginBasis says in words what requiredMarginDB(m, repair) is made of, for reasons: the
-// plan's loss_margin_db when it is the larger; otherwise the class's margin with the repair
-// splices at the design splice loss ("0.5 dB + 3 repair splices of 0.3 dB"), or the class's
-// margin alone; "" for copper.
-func (e *Engine) marginBasis(m *Medium, repair int) string {
-	class, name, ok := e.classMargin(m)
-	switch {
-	case !ok:
+// marginBasis says in words what requiredMarginDB(m, pairs, splices, repair) is made of
+// (marginParts.basis); "" for copper.
+func (e *Engine) marginBasis(m *Medium, pairs, splices, repair int) string {
+	p, ok := e.marginOf(m, pairs, splices, repair)
+	if !ok {
 		return ""
-	case e.opt.LossMarginDB > roundDB(class+float64(repair)*e.design.SpliceDB):
-		return "the plan's loss_margin_db"
-	case repair == 0:
-		return name
 	}
-	splices := "repair splices"
-	if repair == 1 {
-		splices = "repair splice"
+	return p.basis()
+}
+
+// margin is a channel's required margin in dB and its words, worked out once (Engine.marginFor)
+// and carried by its budget to every operating Loss (RequiredMarginDB, RequiredMarginBasis).
+type margin struct {
+	db    float64
+	basis string
+}
+
+// basisKey is what a margin's words depend on, besides the engine.
+type basisKey struct {
+	kind                   string
+	pairs, splices, repair int
+}
+
+// marginFor is the required margin of a channel on medium m (requiredMarginDB) with its words
+// (marginBasis), remembered by class and counts: the words are a fact of every fibre candidate
+// but read only in reasons and outputs (reread 12: 4.8 % of the demo's CPU formatting them).
+func (e *Engine) marginFor(m *Medium, pairs, splices, repair int) margin {
+	p, ok := e.marginOf(m, pairs, splices, repair)
+	if !ok {
+		return margin{}
 	}
-	return fmt.Sprintf("%s dB + %d %s of %s dB", formatNum(class), repair, splices, formatNum(e.design.SpliceDB))
+	k := basisKey{m.Kind, pairs, splices, repair}
+	if b, ok := e.bases.Load(k); ok {
+		return margin{db: p.db(), basis: b.(string)}
+	}
+	b, _ := e.bases.LoadOrStore(k, p.basis())
+	return margin{db: p.db(), basis: b.(string)}
 }
 
 // attenuatorFor is the smallest attenuator the price book prices of at least needDB dB, with
@@ -107,7 +200,7 @@ type budget struct {
 	attN       int     // attenuators on the link
 	attCents   int64   // all of them
 	overloadDB float64 // how far the loss, attenuator included, stays below the PHY's minimum
-	requiredDB float64
+	req        margin  // the margin the channel must keep, with its words
 }
 
 // marginDB is the worst operating margin, and whether there is an operating wavelength.
@@ -118,13 +211,13 @@ func (b *budget) marginDB() (float64, bool) {
 
 // budgetFor is the loss budget of application a on medium m built as construction k (its
 // attenuation; blended for a transition) over a channel of channelM metres with pairs
-// connector pairs and splices splices, keeping requiredDB of margin. Of the reach-and-loss
+// connector pairs and splices splices, keeping req's margin (Engine.marginFor). Of the reach-and-loss
 // pairs a may use on m (Catalog.ReachesOn) it takes the one that reaches the channel and keeps
 // the margin, then the one with the larger margin, then the longer reach, then the first: a
 // higher grade that meets a lower one never does worse. A channel losing less than a's
 // minimum gets the smallest attenuator the price book prices that makes it up.
-func (e *Engine) budgetFor(k *Construction, a *Application, reaches []Reach, channelM float64, pairs, splices int, requiredDB float64) budget {
-	b := budget{r: reaches[0], requiredDB: requiredDB,
+func (e *Engine) budgetFor(k *Construction, a *Application, reaches []Reach, channelM float64, pairs, splices int, req margin) budget {
+	b := budget{r: reaches[0], req: req,
 		losses: Losses(k, a, reaches[0], channelM, pairs, splices, e.design, e.field)}
 	if len(b.losses) == 0 { // copper: no loss budget, one reach
 		return b
@@ -151,7 +244,7 @@ func (e *Engine) budgetFor(k *Construction, a *Application, reaches []Reach, cha
 		score := 0
 		if r.RangeM >= channelM {
 			score = 1
-			if margin >= requiredDB {
+			if margin >= req.db {
 				score = 2
 			}
 		}
@@ -167,7 +260,7 @@ func (e *Engine) budgetFor(k *Construction, a *Application, reaches []Reach, cha
 			x.LossDB = roundDB(x.LossDB + x.AttenuatorDB)
 			x.LimitDB = b.r.MaxLossDB
 			x.MarginDB = roundDB(x.LimitDB - x.LossDB)
-			x.RequiredMarginDB = requiredDB
+			x.RequiredMarginDB, x.RequiredMarginBasis = req.db, req.basis
 			x.FieldLimitDB, x.FieldLimitBy = x.CablingLimitDB, FieldLimitByCabling
 			x.accept(a.Name, x.LimitDB, x.AttenuatorDB)
 		}
@@ -226,7 +319,7 @@ func (e *Engine) budgetPoints(points []float64, l Link, a *Application, m *Mediu
 						// The budget closes with n repair splices at x; x counts only when a channel
 						// of that length has n of them (outside plant within the channel less its ends).
 						for n := 0; n <= maxRepair; n++ {
-							x := length(r.MaxLossDB - e.requiredMarginDB(m, n) - float64(v))
+							x := length(r.MaxLossDB - e.requiredMarginDB(m, l.ConnectorPairs, splices, n) - float64(v))
 							if !finite(x) || x <= 0 {
 								continue
 							}
@@ -238,7 +331,7 @@ func (e *Engine) budgetPoints(points []float64, l Link, a *Application, m *Mediu
 							// lengths at which the budget closes with n and with n+1 splices.
 							if e.margins.RepairSplicesPerKm > 0 && m.Kind == KindSinglemode {
 								step := float64(n) * 1000 / e.margins.RepairSplicesPerKm
-								next := length(r.MaxLossDB - e.requiredMarginDB(m, n+1) - float64(v))
+								next := length(r.MaxLossDB - e.requiredMarginDB(m, l.ConnectorPairs, splices, n+1) - float64(v))
 								for _, y := range []float64{step, step + ends} {
 									if x >= y && next < y {
 										points = append(points, y)

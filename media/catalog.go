@@ -46,15 +46,16 @@ type Catalog struct {
 	Applications []*Application
 }
 
-// MarginPolicy is the loss margin each class of fibre link keeps below its application's
-// maximum channel insertion loss, on top of the design losses. IEEE 802.3's channel insertion
-// loss already holds its own connection allowance (1.5 dB multimode, 2.0 dB single-mode), so
-// a margin here is what the designer keeps beyond the components specified.
+// MarginPolicy is what the catalog adds to the margin each fibre link keeps below its
+// application's maximum channel insertion loss. The engine derives the rest from the channel's
+// counts: what its mated pairs and splices may lose at their ANSI/TIA-568.3-D maxima beyond the
+// design losses (marginParts, media/budget.go).
 type MarginPolicy struct {
-	MultimodeDB  float64 // multimode links, in dB
-	SinglemodeDB float64 // single-mode links, in dB
+	MultimodeDB  float64 // fixed extra on multimode links, in dB
+	SinglemodeDB float64 // fixed extra on single-mode links, in dB
 	// RepairSplicesPerKm is the allowance of future repair splices per km of outside plant on
-	// single-mode links (rounded up per link), at the design splice loss.
+	// single-mode links (rounded up per link), each at the larger of the design and the
+	// ANSI/TIA-568.3-D splice loss.
 	RepairSplicesPerKm float64
 }
 
@@ -973,8 +974,9 @@ func (c *Catalog) Table(w io.Writer, rateGbps float64) error {
 	lines := []string{
 		fmt.Sprintf("connections: field acceptance (ANSI/TIA-568.3-D maxima) mated pair %.2f dB, splice %.2f dB; design mated pair %.2f dB, splice %.2f dB",
 			c.MatedPairDB, c.SpliceDB, c.DesignPairDB, c.DesignSpliceDB),
-		fmt.Sprintf("margins: multimode %.2f dB; single-mode %.2f dB and an allowance of %g repair splices per km of outside plant",
-			c.Margins.MultimodeDB, c.Margins.SinglemodeDB, c.Margins.RepairSplicesPerKm),
+		fmt.Sprintf("margins: what each mated pair and splice may lose at its ANSI/TIA-568.3-D maximum beyond its design loss (%.2f dB a pair, %.2f dB a splice), "+
+			"plus %.2f dB multimode, %.2f dB single-mode; single-mode also %g repair splices per km of outside plant",
+			max(0, c.MatedPairDB-c.DesignPairDB), max(0, c.SpliceDB-c.DesignSpliceDB), c.Margins.MultimodeDB, c.Margins.SinglemodeDB, c.Margins.RepairSplicesPerKm),
 	}
 	if len(meets) > 0 {
 		lines = append(lines, "higher grades: "+strings.Join(meets, "; "))

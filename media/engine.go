@@ -46,16 +46,14 @@ type EngineOptions struct {
 // Engine applies a rule file to a catalog and prices the survivors from a price book. It is
 // safe for concurrent use once built.
 type Engine struct {
-	// mmBasis and smBasis are marginBasis worked out once (basisOf): a multimode link's, and a
-	// single-mode link's by its count of repair splices, up to the most any reach takes.
-	mmBasis string
-	smBasis []string
-	cat     *Catalog
-	rules   *Rules
-	prices  *PriceBook
-	opt     EngineOptions
-	design  Connections // connection losses for LossDB
-	field   Connections // the catalog's, for FieldLimitDB
+	// bases remembers marginBasis by basisKey (marginFor).
+	bases  sync.Map
+	cat    *Catalog
+	rules  *Rules
+	prices *PriceBook
+	opt    EngineOptions
+	design Connections // connection losses for LossDB
+	field  Connections // the catalog's, for FieldLimitDB
 	// termination is the termination method in force, margins the margin policy, cordsM the
 	// copper cords, attenuators the attenuator values the price book prices, ascending.
 	termination string
@@ -188,34 +186,7 @@ func NewCheckEngine(c *Catalog, r *Rules, p *PriceBook, opt EngineOptions) (*Eng
 	e.chosen, _ = lru.New[chooseKey, Choice](chooseCacheSize)
 	e.maxMemo, _ = lru.New[maxKey, float64](4 * chooseCacheSize)
 	e.reachID = reachID(e)
-	for _, m := range c.Media {
-		switch m.Kind {
-		case KindMultimode:
-			e.mmBasis = e.marginBasis(m, 0)
-		case KindSinglemode:
-			for _, a := range c.Applications {
-				for _, r := range e.reachesOn(a, m) {
-					for n := len(e.smBasis); n <= e.repairSplices(m, r.RangeM); n++ {
-						e.smBasis = append(e.smBasis, e.marginBasis(m, n))
-					}
-				}
-			}
-		}
-	}
 	return e, missing
-}
-
-// basisOf is marginBasis(m, repair), from what NewEngine worked out where it can: the text is
-// a fact of every fibre candidate but read only in reasons (reread 12: 4.8 % of the demo's
-// CPU formatting it).
-func (e *Engine) basisOf(m *Medium, repair int) string {
-	switch {
-	case m.Kind == KindMultimode && repair == 0:
-		return e.mmBasis
-	case m.Kind == KindSinglemode && repair < len(e.smBasis):
-		return e.smBasis[repair]
-	}
-	return e.marginBasis(m, repair)
 }
 
 // reachKey is an application and a medium of the engine's catalog, by pointer: cheaper to
@@ -501,7 +472,7 @@ func (e *Engine) evaluate(c *candidate, l Link, at lengths, mi, ai, ki int, v va
 		c.lossK = blend(k, v.inside, ia+ib, channel)
 	}
 	c.repair = e.repairSplices(m, outsideM(l, at))
-	c.b = e.budgetFor(c.lossK, a, e.reachesOn(a, m), channel, l.ConnectorPairs, c.splices, e.requiredMarginDB(m, c.repair))
+	c.b = e.budgetFor(c.lossK, a, e.reachesOn(a, m), channel, l.ConnectorPairs, c.splices, e.marginFor(m, l.ConnectorPairs, c.splices, c.repair))
 	c.r, c.losses = c.b.r, c.b.losses
 	f := &c.f
 	f[fChannelM].num = channel
@@ -545,7 +516,7 @@ func (e *Engine) evaluate(c *candidate, l Link, at lengths, mi, ai, ki int, v va
 		f[fMarginDB].num = w.MarginDB
 		f[fWavelengthNM].num = float64(w.WavelengthNM)
 	}
-	f[fLossMarginDB].num = c.b.requiredDB
+	f[fLossMarginDB].num = c.b.req.db
 	f[fAllowOutdoorCopper].b = e.opt.AllowOutdoorCopper
 	ia, ib := l.insideM()
 	f[fInsideAM].num, f[fInsideBM].num, f[fInsideMaxM].num = ia, ib, max(ia, ib)
@@ -568,7 +539,7 @@ func (e *Engine) evaluate(c *candidate, l Link, at lengths, mi, ai, ki int, v va
 	f[fAttenuatorDB].num = float64(c.b.attDB)
 	f[fOverloadDB].num = c.b.overloadDB
 	f[fRepairSplices].num = float64(c.repair)
-	f[fLossMarginBasis].str = e.basisOf(m, c.repair)
+	f[fLossMarginBasis].str = c.b.req.basis
 	e.future(l, c)
 	for ri, rule := range e.rules.Rules {
 		if !rule.appliesTo(m) {
@@ -622,11 +593,11 @@ func (e *Engine) future(l Link, c *candidate) {
 		if len(rs) == 0 || a.RateGbps != l.FutureRateGbps {
 			continue
 		}
-		b := e.budgetFor(c.lossK, a, rs, channel, l.ConnectorPairs, c.splices, c.b.requiredDB)
+		b := e.budgetFor(c.lossK, a, rs, channel, l.ConnectorPairs, c.splices, c.b.req)
 		r := b.r
 		margin, _ := b.marginDB()
 		reaches := r.RangeM >= channel
-		closes := !c.m.Fibre() || (margin >= b.requiredDB && b.overloadDB == 0)
+		closes := !c.m.Fibre() || (margin >= b.req.db && b.overloadDB == 0)
 		score := 0 // 2 fits, 1 reaches but the budget fails, 0 short
 		switch {
 		case reaches && closes:
@@ -658,7 +629,7 @@ func (e *Engine) future(l Link, c *candidate) {
 		}
 	case 1:
 		f[fFutureNote].str = fmt.Sprintf("%s leaves a loss margin of %s dB, below the required %s dB, or overloads its receiver",
-			best.Name, formatNum(bestMargin), formatNum(c.b.requiredDB))
+			best.Name, formatNum(bestMargin), formatNum(c.b.req.db))
 	default:
 		f[fFutureNote].str = fmt.Sprintf("%s reaches %s m", best.Name, formatNum(bestR.RangeM))
 	}

@@ -73,7 +73,7 @@ func ExampleCatalog_Table() {
 	// os2     ofnr-riser, ofnp-plenum                                  1.00 dB/km at 1310 nm, 1.00 dB/km at 1550 nm
 	// os2     indoor-outdoor, osp-loose-tube                           0.50 dB/km at 1310 nm, 0.50 dB/km at 1550 nm
 	// connections: field acceptance (ANSI/TIA-568.3-D maxima) mated pair 0.75 dB, splice 0.30 dB; design mated pair 0.50 dB, splice 0.30 dB
-	// margins: multimode 0.50 dB; single-mode 0.50 dB and an allowance of 0.5 repair splices per km of outside plant
+	// margins: what each mated pair and splice may lose at its ANSI/TIA-568.3-D maximum beyond its design loss (0.25 dB a pair, 0.00 dB a splice), plus 0.00 dB multimode, 0.00 dB single-mode; single-mode also 0.5 repair splices per km of outside plant
 	// higher grades: om4 also uses om3's figures; om5 also uses om4's figures
 	// ranges and losses per IEEE 802.3, see catalog.yaml (embedded)
 }

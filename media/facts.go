@@ -132,7 +132,7 @@ var facts = [nFacts]Fact{
 	fLimitDB:                  numFact("limit_db", "the application's maximum channel insertion loss there, in dB; 0 for copper"),
 	fMarginDB:                 numFact("margin_db", "limit_db - loss_db at the worst operating wavelength, in dB; 0 for copper"),
 	fWavelengthNM:             numFact("wavelength_nm", "the worst operating wavelength, in nm; 0 for copper"),
-	fLossMarginDB:             numFact("loss_margin_db", "the margin this fibre link must keep, in dB: its class's margin (catalog margins) and its repair-splice allowance, or the plan's loss_margin_db when larger"),
+	fLossMarginDB:             numFact("loss_margin_db", "the margin this fibre link must keep, in dB: what its mated pairs and splices may lose at their ANSI/TIA-568.3-D maxima beyond the design losses, its repair-splice allowance and its class's extra (catalog margins), or the plan's loss_margin_db when larger"),
 	fAllowOutdoorCopper:       boolFact("allow_outdoor_copper", "the plan permits copper between buildings"),
 	fFutureFits:               boolFact("future_fits", "some application at the future rate on this medium and construction reaches the channel and closes its loss budget with loss_margin_db; true when there is no future rate"),
 	fFutureApplication:        strFact("future_application", "the application future_fits found, or the closest miss; \"none\" when the medium has none at the future rate"),
@@ -156,7 +156,7 @@ var facts = [nFacts]Fact{
 	fRepairSplices:            numFact("repair_splices", "repair splices allowed for in loss_margin_db: single-mode outside plant, per km (catalog margins)"),
 	fCable:                    nameFact("cable", "the cable laid, for reasons: construction, with the number of cables in front when the strands need more than one (\"9 × outdoor (one 4-pair cable per port pair)\"), or with a transition e.g. \"osp-loose-tube spliced to ofnr-riser at both entrances\" or \"… at the entrance of CAF\"", nameEndA|nameEndB),
 	fEMISpans:                 nameFact("emi_spans", "the route's spans at its highest EMI level (max_emi), for reasons: \"span D-EW02b\" or \"spans A/1, A/2\"; \"one of its spans\" when not known", nameEMISpans),
-	fLossMarginBasis:          strFact("loss_margin_basis", "what loss_margin_db is made of, for reasons: e.g. \"0.5 dB + 3 repair splices of 0.3 dB\", \"the catalog's multimode margin\" or \"the plan's loss_margin_db\"; \"\" for copper"),
+	fLossMarginBasis:          strFact("loss_margin_basis", "what loss_margin_db is made of, for reasons: e.g. \"2 mated pairs × 0.25 dB to the TIA-568.3-D maxima + 3 repair splices × 0.3 dB\" or \"the plan's loss_margin_db\"; \"\" for copper"),
 }
 
 var factIndex = func() map[string]int {

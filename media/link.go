@@ -183,9 +183,14 @@ type Loss struct {
 	// cabling is tested without it, so FieldLimitDB leaves it out of the application's
 	// allowance instead; 0 without one.
 	AttenuatorDB float64
-	// RequiredMarginDB is the margin this link must keep (its class's margin and repair-splice
-	// allowance, or the plan's margin when larger), where Operating; 0 elsewhere.
-	RequiredMarginDB float64
+	// RequiredMarginDB is the margin this link must keep, where Operating; 0 elsewhere: what its
+	// mated pairs and splices may lose at their ANSI/TIA-568.3-D maxima beyond the design
+	// losses LossDB counts, the repair splices of the margin policy and the catalog's extra for
+	// the class, or the plan's loss_margin_db when larger. RequiredMarginBasis says what it is
+	// made of in words ("2 mated pairs × 0.25 dB to the TIA-568.3-D maxima"); both are worked
+	// out once per channel and printed from here.
+	RequiredMarginDB    float64
+	RequiredMarginBasis string
 }
 
 // FieldLimitByCabling is Loss.FieldLimitBy where the generic link limit of ANSI/TIA-568.3-D

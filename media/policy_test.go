@@ -13,7 +13,7 @@ import (
 // channel of 140 m on OM3 closes. IEEE 802.3 Clause 52: 300 m and 2.6 dB on OM3 (range seen,
 // loss from memory); design 0.14 km x 3.5 dB/km (ANSI/TIA-568.3-D maximum, from memory) + 2
 // pairs x 0.5 dB (trade association guide, seen) + 2 pigtail splices x 0.3 dB = 2.09 dB, margin
-// 0.51 dB over the 0.5 dB the multimode policy keeps. 150 m (2.125 dB) closed before 2026-12-05
+// 0.51 dB over the 0.5 dB the policy keeps for two pairs at 0.75 dB (TIA-568.3-D, seen as fragment). 150 m (2.125 dB) closed before 2026-12-05
 // with 0.475 dB; parts at the TIA-568.3-D maxima may read 2.625 dB there, above 2.6, so it is
 // now refused (tester 14 F7).
 func TestTenGigSROnOM3At140m(t *testing.T) {
@@ -73,8 +73,8 @@ func TestMarginFloor(t *testing.T) {
 		{"om4 129 m, floor 1 dB", "om4", 10, 129, 1, false, 2.05, 0.85, 1, "margin 0.85 dB is below the required 1 dB"},
 		// The demo's TWR-MTH: 371.42 m, 2.90 dB against 2.9 dB, within IEEE's 400 m, planned
 		// before 2026-12-05 with no margin: two pairs at the TIA-568.3-D maximum may read 3.40 dB
-		// (tester 14 F7). The multimode margin, 0.5 dB, now refuses it.
-		{"om4 371.42 m, policy", "om4", 10, 371.42, 0, false, 2.9, 0, 0.5, "margin 0 dB is below the required 0.5 dB (the catalog's multimode margin)"},
+		// (tester 14 F7). The margin for the two pairs at that maximum, 0.5 dB, refuses it.
+		{"om4 371.42 m, policy", "om4", 10, 371.42, 0, false, 2.9, 0, 0.5, "margin 0 dB is below the required 0.5 dB (2 mated pairs × 0.25 dB to the TIA-568.3-D maxima)"},
 		// The demo's TWR-EST: 381.45 m is within IEEE's 400 m, but two spliced pigtails plan
 		// 0.1 dB more than IEEE's 1.5 dB allowance: 2.94 dB against 2.9.
 		{"om4 381.45 m, policy", "om4", 10, 381.45, 0, false, 2.94, -0.04, 0, "margin -0.04 dB is below the required 0.5 dB"},
@@ -86,8 +86,8 @@ func TestMarginFloor(t *testing.T) {
 		{"om3 296.19 m, policy", "om3", 10, 296.19, 0, false, 2.64, -0.04, 0.5, "margin -0.04 dB is below the required 0.5 dB"},
 		// Single-mode outside plant, IEEE 802.3 Clause 52 10GBASE-LR 10 km, 6.2 dB (from memory);
 		// 0.5 dB/km (ANSI/TIA-568.3-D outside plant, from memory): 1 km x 0.5 + 1.6 = 2.1 dB.
-		// The policy keeps 0.5 dB and one repair splice for the km (common practice, no
-		// published source): 0.5 + 0.3 = 0.8 dB; a floor below that changes nothing.
+		// The policy keeps 2 x 0.25 dB for the pairs and one repair splice for the km (common
+		// practice, no published source): 0.5 + 0.3 = 0.8 dB; a floor below that changes nothing.
 		{"os2 1 km outdoors, policy", "os2", 10, 1000, 0, true, 2.1, 4.1, 0.8, ""},
 		{"os2 1 km outdoors, floor 0.5 dB", "os2", 10, 1000, 0.5, true, 2.1, 4.1, 0.8, ""},
 		{"os2 1 km outdoors, floor 1 dB", "os2", 10, 1000, 1, true, 2.1, 4.1, 1, ""},

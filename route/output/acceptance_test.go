@@ -11,10 +11,11 @@ import (
 
 // TestLinksAcceptanceColumns: links.csv's acceptance columns (after the cable schedule) are
 // the leg's loss budget as the rule engine set it: per wavelength the field limit and what
-// sets it, the required margin beside margin_db and the attenuator the loss includes. The
-// demo's legs are all single-mode, limited by ANSI/TIA-568.3-D; one leg is given by hand what
-// a 10GBASE-ER leg with a 5 dB attenuator on a synthetic 6 dB channel limit would carry (see
-// media's TestFieldLimitLessAttenuator), so that the application and the attenuator show.
+// sets it, the required margin beside margin_db with what it is made of, and the attenuator the
+// loss includes. The demo's legs are all single-mode, limited by ANSI/TIA-568.3-D; one leg is
+// given by hand what a 10GBASE-ER leg with a 5 dB attenuator on a synthetic 6 dB channel limit
+// would carry (see media's TestFieldLimitLessAttenuator), so that the application and the
+// attenuator show.
 func TestLinksAcceptanceColumns(t *testing.T) {
 	t.Parallel()
 	r, x := testplan.DemoOperatingLoss(t)
@@ -53,6 +54,9 @@ func TestLinksAcceptanceColumns(t *testing.T) {
 		}
 		if got, want := row[col("required_margin_db")], strconv.FormatFloat(w.RequiredMarginDB, 'f', 2, 64); got != want {
 			t.Errorf("%s: required margin %s, want %s", l.Label(), got, want)
+		}
+		if got := row[col("required_margin_from")]; got != w.RequiredMarginBasis || got == "" {
+			t.Errorf("%s: required margin from %q, want %q", l.Label(), got, w.RequiredMarginBasis)
 		}
 		if got, want := row[col("attenuator_db")], strconv.FormatFloat(w.AttenuatorDB, 'f', -1, 64); got != want {
 			t.Errorf("%s: attenuator %s, want %s", l.Label(), got, want)

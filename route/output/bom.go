@@ -310,7 +310,7 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 		workbook.Column{Name: "margin", Unit: "dB"}, workbook.Column{Name: "field test limit", Unit: "dB"},
 		workbook.Column{Name: "operating"}, workbook.Column{Name: "field test limit by"},
 		workbook.Column{Name: "TIA-568.3-D link limit", Unit: "dB"}, workbook.Column{Name: "required margin", Unit: "dB"},
-		workbook.Column{Name: "attenuator at each receiver, in loss", Unit: "dB"})
+		workbook.Column{Name: "required margin from"}, workbook.Column{Name: "attenuator at each receiver, in loss", Unit: "dB"})
 	loss.Filter = true
 	safety := wb.AddSheet(SheetSafety, workbook.Column{Name: "caution"}, workbook.Column{Name: "in this plan"},
 		workbook.Column{Name: "what to do"}, workbook.Column{Name: "source"}, workbook.Column{Name: "key (links.csv safety)"})
@@ -553,9 +553,9 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 			row = append(row, workbook.Number(x.FieldLimitDB, 2), workbook.Bool(x.Operating), workbook.Text(x.FieldLimitBy),
 				workbook.Number(x.CablingLimitDB, 2))
 			if x.Operating {
-				row = append(row, workbook.Number(x.RequiredMarginDB, 2), workbook.Number(x.AttenuatorDB, 0))
+				row = append(row, workbook.Number(x.RequiredMarginDB, 2), workbook.Text(x.RequiredMarginBasis), workbook.Number(x.AttenuatorDB, 0))
 			} else {
-				row = append(row, workbook.Blank(), workbook.Blank())
+				row = append(row, workbook.Blank(), workbook.Blank(), workbook.Blank())
 			}
 			loss.Append(row...)
 		}

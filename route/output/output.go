@@ -344,20 +344,21 @@ func linksCSV(out io.Writer, r *route.Result, opt WriteOptions) error {
 
 // acceptanceHead names links.csv's columns after the cable schedule: what decides each
 // wavelength's field limit (field_limit_…_db), then the margin the leg must keep, beside
-// margin_db's worth of it, and the fixed attenuator at each receiver, which the operating
-// wavelengths' loss_…_db include.
+// margin_db's worth of it, and what that margin is made of, and the fixed attenuator at each
+// receiver, which the operating wavelengths' loss_…_db include.
 func acceptanceHead() []string {
 	var head []string
 	for _, nm := range routing.Wavelengths {
 		head = append(head, fmt.Sprintf("field_limit_by_%d", nm))
 	}
-	return append(head, "required_margin_db", "attenuator_db")
+	return append(head, "required_margin_db", "required_margin_from", "attenuator_db")
 }
 
 // acceptanceText is leg l's acceptanceHead columns: per wavelength media.Loss.FieldLimitBy
 // ("TIA-568.3-D" or the application; "" where the leg has no loss there), then the worst
-// operating wavelength's RequiredMarginDB, which margin_db is held to, and its AttenuatorDB
-// at each receiver (0 without one); both "" without a loss budget.
+// operating wavelength's RequiredMarginDB, which margin_db is held to, its
+// RequiredMarginBasis and its AttenuatorDB at each receiver (0 without one); all "" without a
+// loss budget.
 func acceptanceText(l *routing.Leg) []string {
 	var row []string
 	for _, nm := range routing.Wavelengths {
@@ -365,9 +366,9 @@ func acceptanceText(l *routing.Leg) []string {
 		row = append(row, x.FieldLimitBy)
 	}
 	if w, ok := l.WorstLoss(); ok {
-		return append(row, strconv.FormatFloat(w.RequiredMarginDB, 'f', 2, 64), strconv.FormatFloat(w.AttenuatorDB, 'f', -1, 64))
+		return append(row, strconv.FormatFloat(w.RequiredMarginDB, 'f', 2, 64), w.RequiredMarginBasis, strconv.FormatFloat(w.AttenuatorDB, 'f', -1, 64))
 	}
-	return append(row, "", "")
+	return append(row, "", "", "")
 }
 
 // metresText finds a length in metres in a text of the rules ("a 247.41 m channel").

@@ -128,7 +128,7 @@ type LinkSpec struct {
 
 // Design holds the plan's design switches; lengths are metres, losses dB.
 type Design struct {
-	LossMarginDB   float64 `yaml:"loss_margin_db"` // a floor on every fibre link's margin, multimode included; 0: the catalog's margin policy alone
+	LossMarginDB   float64 `yaml:"loss_margin_db"` // a floor on every fibre link's margin, multimode included; 0: the margin policy alone
 	AllowNewTrench bool    `yaml:"allow_new_trench"`
 	// TurnHandholes lets a route change from one pathway to another at a junction without a
 	// structure, where the plan then digs a handhole (a cable changes duct bank only in a
@@ -138,7 +138,7 @@ type Design struct {
 	MaxLateralM        float64 `yaml:"max_lateral_m"`
 	SnapM              float64 `yaml:"snap_m"`
 	SlackM             float64 `yaml:"slack_m"`        // slack per link end, in metres
-	PairLossDB         float64 `yaml:"pair_loss_db"`   // design loss per mated connector pair; 0 = catalog (design_pair_db, 0.5 dB; TIA-568.3-D allows 0.75)
+	PairLossDB         float64 `yaml:"pair_loss_db"`   // design loss per mated connector pair; 0 = catalog (design_pair_db, 0.5 dB; TIA-568.3-D allows 0.75, and the margin keeps the difference)
 	SpliceLossDB       float64 `yaml:"splice_loss_db"` // design loss per splice; 0 = catalog (TIA-568.3-D 0.3 dB)
 	// Termination is how fibre strands are terminated: media.TerminationSplicedPigtail,
 	// TerminationFieldConnector or TerminationFactory; "" = what the price book's termination
@@ -241,8 +241,9 @@ const MinHandholeSpacingM = 10
 var Default = Plan{
 	Defaults: Defaults{Rate: "10G", Strands: 12, Growth: 0.5, Redundancy: RedundancyNone},
 	Design: Design{
-		// No margin of the plan's own: the catalog's margin policy (media/catalog.yaml,
-		// margins) says what each class of link keeps.
+		// No margin of the plan's own: the margin policy (media's marginParts: what the
+		// channel's pairs and splices may lose at their TIA-568.3-D maxima beyond the design
+		// losses, and media/catalog.yaml's margins) says what each link keeps.
 		LossMarginDB:   0,
 		AllowNewTrench: true,
 		TurnHandholes:  true,

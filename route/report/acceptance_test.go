@@ -29,7 +29,8 @@ func TestPlanAcceptance(t *testing.T) {
 	for _, want := range []string{
 		// The loss holds the attenuator, the field limit not: the cell says so (tester 9's finding 2).
 		`<span class="small field">≤ 2.60 without the 5 dB attenuator</span>`,
-		`Field test limit at ` + strconv.Itoa(x.WavelengthNM) + ` nm 2.60 dB, set by ` + app + ` (ANSI/TIA-568.3-D link limit 3.09 dB). The loss includes a 5 dB fixed attenuator at each receiver; the link is tested without it.`,
+		`Field test limit at ` + strconv.Itoa(x.WavelengthNM) + ` nm 2.60 dB, set by ` + app + ` (ANSI/TIA-568.3-D link limit 3.09 dB). Margin to keep `,
+		`. The loss includes a 5 dB fixed attenuator at each receiver; the link is tested without it.`,
 		`<span class="small">field limit</span>`,
 	} {
 		if !strings.Contains(html, want) {
@@ -41,8 +42,28 @@ func TestPlanAcceptance(t *testing.T) {
 	if got := acceptanceOf([]media.Loss{{WavelengthNM: 850, FieldLimitDB: 2.6, CablingLimitDB: 3.087, FieldLimitBy: "10GBASE-SR"}}, "1000BASE-SX"); !strings.Contains(got, "set by 10GBASE-SR, the application of its future rate") {
 		t.Errorf("future rate's limit: %q", got)
 	}
-	// Every other leg: limited by ANSI/TIA-568.3-D, no attenuator, so no such line.
-	if n := strings.Count(html, `class="small acceptance"`); n != 1 {
-		t.Errorf("%d acceptance lines, want 1", n)
+	// Every fibre leg says the margin it must keep and what it is made of, from its loss
+	// budget (media.Loss.RequiredMarginBasis); the other legs, limited by ANSI/TIA-568.3-D with
+	// no attenuator, say nothing more.
+	fibre := 0
+	for i := range r.Legs {
+		l := &r.Legs[i]
+		w, ok := l.WorstLoss()
+		if !ok {
+			continue
+		}
+		fibre++
+		if w.RequiredMarginBasis == "" {
+			t.Errorf("%s: no words for its required margin %.2f dB", l.Label(), w.RequiredMarginDB)
+		}
+		if want := "Margin to keep " + dB(w.RequiredMarginDB) + " dB: " + w.RequiredMarginBasis + "."; !strings.Contains(html, want) {
+			t.Errorf("report lacks %q", want)
+		}
+	}
+	if n := strings.Count(html, `class="small acceptance"`); n != fibre || fibre == 0 {
+		t.Errorf("%d acceptance lines, want one for each of the %d fibre legs", n, fibre)
+	}
+	if n := strings.Count(html, "Field test limit at "); n != 1 {
+		t.Errorf("%d field test limits set by an application, want 1", n)
 	}
 }

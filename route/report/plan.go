@@ -242,6 +242,7 @@ type planView struct {
 	Attenuation []string
 	ReasonSpan  int // columns of the links table the reason row spans
 	DesignDB    string
+	DesignFrom  string // what DesignDB is made of (media.Loss.RequiredMarginBasis)
 	Fill        []fillRow
 	FillOver    int
 	FillOpen    int
@@ -512,15 +513,15 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 			v.BudgetBar.Class = "over"
 		}
 	}
-	// The margin the worst leg must keep: its class's, by the catalog's margin policy, or the
-	// plan's loss_margin_db when that is larger (media.Loss.RequiredMarginDB).
-	worstMargin, required := 0.0, 0.0
+	// The margin the worst leg must keep and what it is made of (media.Loss.RequiredMarginDB,
+	// RequiredMarginBasis): the margin policy's, or the plan's loss_margin_db when larger.
+	worstMargin, required, from, found := 0.0, 0.0, "", false
 	for _, l := range r.Legs {
-		if w, ok := l.WorstLoss(); ok && l.Feasible && (required == 0 && worstMargin == 0 || w.MarginDB < worstMargin) {
-			worstMargin, required = w.MarginDB, w.RequiredMarginDB
+		if w, ok := l.WorstLoss(); ok && l.Feasible && (!found || w.MarginDB < worstMargin) {
+			worstMargin, required, from, found = w.MarginDB, w.RequiredMarginDB, w.RequiredMarginBasis, true
 		}
 	}
-	v.DesignDB = dB(required)
+	v.DesignDB, v.DesignFrom = dB(required), from
 
 	// Media in catalog order, then any the catalog does not know, by id.
 	used := map[string]bool{}
@@ -942,10 +943,18 @@ func legRowOf(r *route.Result, l *routing.Leg, opt Options, med map[string]mediu
 
 // acceptanceOf is the links table's line on a leg's acceptance: the wavelengths whose field
 // test limit an application sets below the ANSI/TIA-568.3-D link limit, with both figures,
-// and the fixed attenuator at each receiver that the loss includes; "" when there is neither.
+// the margin the leg must keep at its worst operating wavelength and what it is made of
+// (media.Loss.RequiredMarginBasis), and the fixed attenuator at each receiver that the loss
+// includes; "" when there is none of them (copper).
 func acceptanceOf(losses []media.Loss, app string) string {
 	var parts []string
 	att := 0.0
+	var worst *media.Loss
+	for i := range losses {
+		if x := &losses[i]; x.Operating && (worst == nil || x.MarginDB < worst.MarginDB) {
+			worst = x
+		}
+	}
 	for _, x := range losses {
 		if x.FieldLimitBy != "" && x.FieldLimitBy != media.FieldLimitByCabling {
 			by := x.FieldLimitBy
@@ -964,6 +973,9 @@ func acceptanceOf(losses []media.Loss, app string) string {
 	var out []string
 	if len(parts) > 0 {
 		out = append(out, "Field test limit "+strings.Join(parts, "; ")+".")
+	}
+	if worst != nil && worst.RequiredMarginBasis != "" {
+		out = append(out, fmt.Sprintf("Margin to keep %s dB: %s.", dB(worst.RequiredMarginDB), worst.RequiredMarginBasis))
 	}
 	if att > 0 {
 		out = append(out, fmt.Sprintf("The loss includes a %s dB fixed attenuator at each receiver; the link is tested without it.",
