@@ -41,6 +41,9 @@ func Surfaces() []string { return slices.Clone(surfaces) }
 const (
 	MethodTrench = "trench" // open trench, with restoration of the surface (the default)
 	MethodBore   = "bore"   // horizontal directional bore: no open trench, no restoration
+	// MethodNone is an existing pathway nothing may be built beside: its ducts full, it stays
+	// full (a conduit on a bridge, a casing under a railway, a sleeve through a wall).
+	MethodNone = "none"
 )
 
 // DefaultSpareDucts is a pathway's number of spare ducts when spare_ducts is absent.
@@ -75,7 +78,7 @@ var (
 	statuses       = []string{StatusExisting, StatusProposed}
 	emis           = []string{EMINone, EMILow, EMIHigh}
 	surfaces       = []string{SurfaceTurf, SurfaceAsphalt, SurfaceConcrete}
-	methods        = []string{MethodTrench, MethodBore}
+	methods        = []string{MethodTrench, MethodBore, MethodNone}
 	structureTypes = []string{StructureMaintenanceHole, StructureHandhole, StructurePullBox}
 )
 
@@ -987,6 +990,12 @@ func (f *feature) pathway(g orb.Geometry, ok bool) {
 	emi, _ := f.enum(PropEMI, emis, EMINone)
 	surface, _ := f.enum(PropSurface, surfaces, "")
 	method, methodFixed := f.enum(PropMethod, methods, MethodTrench)
+	if method == MethodNone && status == StatusProposed {
+		// New construction is built some way: none is for a pathway already there.
+		f.add(PropMethod, problemf(ErrBadValue, "want %q or %q on a proposed pathway (status %q), got %q, which is for an existing pathway nothing may be built beside",
+			MethodTrench, MethodBore, StatusProposed, MethodNone))
+		method, methodFixed = MethodTrench, false
+	}
 	plenum := f.flag(PropPlenum)
 	if plenum && typ != TypeTray {
 		// Cable in a raceway or outside a building is not in a plenum's air.

@@ -38,7 +38,9 @@ func TestParseBad(t *testing.T) {
 		{"unknown_emi.geojson", `unknown_emi.geojson: feature #1 "P-1": property "emi": want one of "none", "low", "high", got string "medium"`, ErrBadValue, false},
 		{"plenum_on_duct.geojson", `plenum_on_duct.geojson: feature #1 "P-1": property "plenum": want true only on a tray pathway (type "tray"); this one is "duct"`, ErrBadValue, false},
 		{"plenum_on_duct.geojson", `plenum_on_duct.geojson: feature #2 "P-2": property "plenum": want true or false (or 1 or 0), got string "yes"; write true or false without quotes`, ErrWrongType, false},
-		{"unknown_method.geojson", `unknown_method.geojson: feature #1 "P-1": property "method": want one of "trench", "bore", got string "tunnel-boring"`, ErrBadValue, false},
+		{"unknown_method.geojson", `unknown_method.geojson: feature #1 "P-1": property "method": want one of "trench", "bore", "none", got string "tunnel-boring"`, ErrBadValue, false},
+		// Tester 15 F12: none is for an existing pathway nothing may be built beside.
+		{"proposed_method_none.geojson", `proposed_method_none.geojson: feature #1 "P-1": property "method": want "trench" or "bore" on a proposed pathway (status "proposed"), got "none", which is for an existing pathway nothing may be built beside`, ErrBadValue, false},
 		{"unknown_surface.geojson", `unknown_surface.geojson: feature #1 "P-1": property "surface": want one of "turf", "asphalt", "concrete", got string "gravel"`, ErrBadValue, false},
 		{"unknown_role.geojson", `unknown_role.geojson: feature #0 "B-1": property "role": want one of "mc", "ic", got string "hub"`, ErrBadValue, false},
 		{"wrong_property_type.geojson", `wrong_property_type.geojson: feature #0 "B-1": property "riser_m": want metres from 0 to 1000, got string "15" (write numbers without quotes)`, ErrWrongType, false},

@@ -409,8 +409,12 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 			e.Ducts, e.DuctIDMM = sp.SpareDucts, sp.DuctMM
 			// One trench or bore beside the span however many ducts it gets, and the ducts;
 			// new civil work, so only when the plan allows new trench.
-			work := items.NewWork(d, sp, items.MethodOf(m.prices, d, sp), 1)
-			if d.AllowNewTrench && m.prices.Check(items.KeysOf(append(work, items.AddedDuct(1)))) == nil && m.perM(items.AddedDuct(1)) > 0 {
+			// Never beside a pathway the campus says nothing may be built beside (method none).
+			var work []media.Quantity
+			if sp.Method != geo.MethodNone {
+				work = items.NewWork(d, sp, items.MethodOf(m.prices, d, sp), 1)
+			}
+			if work != nil && d.AllowNewTrench && m.prices.Check(items.KeysOf(append(work, items.AddedDuct(1)))) == nil && m.perM(items.AddedDuct(1)) > 0 {
 				e.AddDuctPerMCents = m.perM(items.AddedDuct(1))
 				e.AddTrenchPerMCents = m.perM(append(work, m.bidItems(media.BidBases{NewBuriedM: 1})...)...)
 				e.AddTrenchDucts = items.NewDucts(d) // the trench is laid with the design's ducts at least (optimize.Edge.LaidDucts)
