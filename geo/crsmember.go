@@ -81,6 +81,7 @@ func (l *loader) fileCRS(name string, top map[string]json.RawMessage) (to orb.Pr
 			err = problemf(ErrBadValue, "%v", err)
 		}
 		l.errs.Add(&input.Problem{File: name, Key: "crs", Err: err})
+		l.lost = true // none of the file's features is read: any may be a building a plan names
 		return nil, code, false
 	}
 	return to, code, true

@@ -219,6 +219,9 @@ func (l *loader) clearGeometries() *Campus {
 			bad[Source{File: p.File, Index: p.Feature.Index, Table: p.Feature.Table, FID: p.Feature.FID}] = true
 		}
 	}
+	for _, p := range l.projected { // said once per file (projectedFindings), each bad
+		bad[p.src] = true
+	}
 	if len(bad) == 0 {
 		return &l.c
 	}

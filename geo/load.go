@@ -251,6 +251,9 @@ type Partial struct {
 	// Unsure are the ids of the features that could not be read far enough to know their
 	// kind (a kind misspelt, no geometry): each may be a building, with any role.
 	Unsure []string
+	// RoleUnread is set when a building gives its role under a property spelt like "role"
+	// ("ROLE"), which is not read: which building has role mc is not known.
+	RoleUnread bool
 }
 
 // PartialOf is the Partial of a campus read whole (whose network has problems).
@@ -266,7 +269,7 @@ func (r *Reader) Partial() *Partial {
 	}
 	bs := slices.Clone(l.c.Buildings)
 	slices.SortStableFunc(bs, func(a, b Building) int { return strings.Compare(a.ID, b.ID) })
-	return &Partial{Buildings: bs, Unsure: slices.Sorted(slices.Values(l.unsure))}
+	return &Partial{Buildings: bs, Unsure: slices.Sorted(slices.Values(l.unsure)), RoleUnread: l.roleSlip}
 }
 
 // Campus checks the campus as a whole and returns it, or every problem found in any source
@@ -309,6 +312,14 @@ type loader struct {
 	// groups are the shared-risk groups pathways give, with the pathway, in the order read
 	// (groupWarnings).
 	groups []groupUse
+	// missingIDs are the features without the id their kind needs, and projected those
+	// with a position that looks projected, in the order read (missingIDFindings,
+	// projectedFindings: one problem per file for each).
+	missingIDs []missingID
+	projected  []projected
+	// roleSlip is set when a building's role is not read for a property spelt like it
+	// (nearFindings): the hub by role is not known (Partial.RoleUnread).
+	roleSlip bool
 }
 
 // idDiff is a feature whose Feature "id" member (as a message prints it) differs from its
@@ -406,6 +417,8 @@ func (l *loader) finish() (*Campus, error) {
 	})
 	read := len(l.errs.List)
 	l.nearFindings()
+	l.missingIDFindings()
+	l.projectedFindings()
 	l.checkEntrances()
 	l.checkMC()
 	l.checkFar()
@@ -739,7 +752,7 @@ func (f *feature) check(member any, geom orb.Geometry, gerr error, tableKind str
 		default:
 			f.unsure(idOK) // no kind: a building, perhaps
 			if gerr != nil {
-				f.add("geometry", gerr)
+				f.geometryErr(gerr)
 				return
 			}
 			f.add("geometry", problemf(ErrBadGeometry, `want Polygon, MultiPolygon, LineString, MultiLineString or Point (or a "kind" property), got %s`, geomName(geom)))
@@ -750,7 +763,10 @@ func (f *feature) check(member any, geom orb.Geometry, gerr error, tableKind str
 	if idOK {
 		if f.id == "" {
 			if kindNeedsID(kind) {
-				f.add(PropID, problemf(ErrMissingProperty, "missing%s; every %s needs a unique id%s", f.emptyNote(PropID), kind, f.nearNote(PropID)))
+				l.missingIDs = append(l.missingIDs, missingID{src: f.src, kind: kind, empty: f.emptyNote(PropID), near: f.nearNote(PropID)})
+			}
+			if kind == KindBuilding {
+				l.lost = true // a building without an id may be the one a plan names
 			}
 		} else if kind == KindPathway && strings.Contains(f.id, "/") {
 			f.add(PropID, problemf(ErrBadValue, `want a pathway id without "/" (span ids use it), got %q`, f.id))
@@ -765,7 +781,7 @@ func (f *feature) check(member any, geom orb.Geometry, gerr error, tableKind str
 	}
 
 	if gerr != nil {
-		f.add("geometry", gerr)
+		f.geometryErr(gerr)
 	}
 	f.kind = kind
 	switch kind {
@@ -1542,8 +1558,8 @@ func checkRange(p orb.Point) error {
 	x, y := p[0], p[1]
 	switch {
 	case math.Abs(x) > projectedM || math.Abs(y) > projectedM:
-		return problemf(ErrProjected, `got [%s, %s]: coordinates look projected (metres or feet?); reproject to WGS84 longitude/latitude, or name their system in a "crs" member of the FeatureCollection ({"type": "name", "properties": {"name": "EPSG:<code>"}}; needs a build with PROJ)`,
-			fmtCoord(x), fmtCoord(y))
+		return problemf(ErrProjected, `got [%s, %s]: coordinates look projected (metres or feet?); %s`,
+			fmtCoord(x), fmtCoord(y), projectedAdvice)
 	case math.Abs(x) > 180:
 		return problemf(ErrBadGeometry, "longitude %s outside [-180, 180]", fmtCoord(x))
 	case math.Abs(y) > 90:

@@ -80,6 +80,10 @@ type nearUse struct {
 	problem    bool   // the property meant is absent and changes the plan: a problem, not a warning
 	given      string // the value of the property meant, when given (a warning says it)
 	n          int    // features of the file (table) and kind with this slip
+	// unit is set when key is known in another unit (unitprop.go): value is key's value
+	// written in known's unit, "" when it is no number.
+	unit       *otherUnit
+	raw, value string
 }
 
 // prop returns property key's value as given (nil when absent) and notes that the reader
@@ -107,7 +111,9 @@ func (f *feature) unread() (keys, known []string) {
 		}
 		k, ok := cache[key]
 		if !ok {
-			k = nearestName(key, f.asked)
+			if k, _ = otherUnitOf(key, f.asked); k == "" {
+				k = nearestName(key, f.asked)
+			}
 			cache[key] = k
 		}
 		if k != "" {
@@ -164,6 +170,9 @@ func (f *feature) nearCheck() {
 			continue
 		}
 		u := nearUse{src: f.src, id: f.id, kind: f.kind, key: key, known: k, n: 1}
+		if f.unitCheck(u) {
+			continue
+		}
 		v, got := f.props[k], f.props[key]
 		if k == PropID {
 			// An id is its text, a whole number's too (idText).
@@ -191,6 +200,32 @@ func (f *feature) nearCheck() {
 		}
 		f.l.near = append(f.l.near, u)
 	}
+}
+
+// unitCheck notes u when its property gives the one meant in another unit (unitprop.go):
+// a problem when the one meant is absent, a warning when it is given with another length,
+// nothing when they agree. It reports whether u's property is such a one.
+func (f *feature) unitCheck(u nearUse) bool {
+	k, unit := otherUnitOf(u.key, f.asked)
+	if k != u.known {
+		return false
+	}
+	u.unit = &unit
+	x, xDec, isNum := numberOf(f.props[u.key])
+	if isNum {
+		u.raw, u.value = strings.Trim(valueText(f.props[u.key]), `"`), unit.converted(x)
+	}
+	if v := f.props[k]; v != nil && v != "" {
+		m, mDec, ok := numberOf(v)
+		if !isNum || !ok || unit.agrees(x, xDec, m, mDec) {
+			return true // an export that writes both, or a value no length: the one meant is read
+		}
+		u.given = valueText(v)
+	} else {
+		u.problem = true
+	}
+	f.l.near = append(f.l.near, u)
+	return true
 }
 
 // takenDefault is a property not given and the default the reader took for it.
@@ -292,7 +327,12 @@ func (l *loader) nearFindings() {
 			more = fmt.Sprintf(" (nor on %s of this file)", input.Counted(u.n-1, "more "+u.kind, "more "+u.kind+"s"))
 		}
 		switch {
+		case u.unit != nil:
+			l.unitFinding(u, more)
 		case u.problem:
+			if u.known == PropRole {
+				l.roleSlip = true
+			}
 			l.errs.Add(&input.Problem{File: u.src.File, Feature: u.src.Feature(u.id), Key: u.key,
 				Err: problemf(ErrUnknownProperty, "not read%s: did you mean %q? Without it the %s is planned with %s; rename the property (property names are matched exactly)",
 					more, u.known, u.kind, blankDefaultText(u.kind, u.known))})

@@ -10,6 +10,7 @@ import (
 	"strings"
 	"testing"
 
+	"spanwright/geo/crs"
 	"spanwright/route/plan"
 )
 
@@ -356,4 +357,103 @@ func TestPlanNamesWithCampusProblems(t *testing.T) {
 		sw + `:3:15: vary: hub: want the id of a building, got "LIBRARY", which no building has`,
 		want[2],
 	})
+}
+
+// TestPlanWaitsForUnreadCampus (tester 15 F3): the README ("Limits") promises that the plan's
+// hub and links wait for the campus to read when a feature or file could not be read far
+// enough to know its id (it might be the building named). A file refused whole at its
+// "crs", and buildings whose ids are under "ID" (a shapefile export), are that case: the
+// plan is not blamed for buildings that are in the file. A building's role under "ROLE"
+// leaves unknown which building is mc, so the hub by role waits too; a link to a building
+// that is not there is still named. And a slip a GIS export repeats on every feature (ids
+// under "ID", positions in a projected system) is one problem per file and kind, on the
+// first feature, with the count and the next features (as the other slips are), not one
+// line per feature. The rules are the README's, common practice, no published source.
+func TestPlanWaitsForUnreadCampus(t *testing.T) {
+	dir := starterWith(t)
+	plan, campus := filepath.Join(dir, "plan.yaml"), filepath.Join(dir, "campus.geojson")
+	editFile(t, dir, "plan.yaml", "  - {to: MAST, rate: 1G}", "  - {to: MAST, rate: 1G}\n  - {to: GHOST}")
+	starterCampus, err := os.ReadFile(campus)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ghost := plan + `:19:10: links[2].to: want the id of a building, got "GHOST", which no building has`
+
+	// Every id under "ID": one problem per kind, and the plan waits (GHOST too: it may be
+	// any of the buildings whose id was not read).
+	write(t, dir, "campus.geojson", strings.ReplaceAll(string(starterCampus), `"id":`, `"ID":`))
+	slip := `, which is not read: did you mean "id"? (property names are matched exactly)`
+	planAndCheckRefused(t, plan, filepath.Join(dir, "out"), []string{
+		campus + `: feature #0 (no id): property "id": missing, and on 5 more buildings of this file (#1, #2, #3, …); every building needs a unique id; the feature gives "ID"` + slip,
+		campus + `: feature #6 (no id): property "id": missing, and on 7 more pathways of this file (#7, #8, #9, …); every pathway needs a unique id; the feature gives "ID"` + slip,
+		campus + `: feature #14 (no id): property "id": missing, and on 1 more structure of this file (#15); every structure needs a unique id; the feature gives "ID"` + slip,
+	})
+
+	// Only the structures' ids under "ID": every building read, so GHOST is named.
+	fixed := strings.ReplaceAll(string(starterCampus), `"id":"HH1"`, `"ID":"HH1"`)
+	write(t, dir, "campus.geojson", strings.ReplaceAll(fixed, `"id":"MH1"`, `"ID":"MH1"`))
+	planAndCheckRefused(t, plan, filepath.Join(dir, "out"), []string{
+		ghost,
+		campus + `: feature #14 (no id): property "id": missing, and on 1 more structure of this file (#15); every structure needs a unique id; the feature gives "ID"` + slip,
+	})
+
+	// The mc's role under "ROLE" and no hub in the plan: the hub waits, GHOST is named.
+	write(t, dir, "campus.geojson", strings.Replace(string(starterCampus), `"role":"mc"`, `"ROLE":"mc"`, 1))
+	editFile(t, dir, "plan.yaml", "hub: HALL ", "# hub: HALL ")
+	planAndCheckRefused(t, plan, filepath.Join(dir, "out"), []string{
+		ghost,
+		campus + `: feature #0 "HALL": property "ROLE": not read: did you mean "role"? Without it the building is planned with no role (a building the backbone serves); rename the property (property names are matched exactly)`,
+	})
+	editFile(t, dir, "plan.yaml", "# hub: HALL ", "hub: HALL ")
+
+	// Positions in a projected system (feet, say) without a "crs": one problem for the file;
+	// every feature's id read, so GHOST is named and HALL, LODGE and MAST are not.
+	var fc map[string]any
+	if err := json.Unmarshal(starterCampus, &fc); err != nil {
+		t.Fatal(err)
+	}
+	var scale func(v any) any
+	scale = func(v any) any {
+		arr, ok := v.([]any)
+		if !ok {
+			return v
+		}
+		if x, isNum := arr[0].(float64); isNum {
+			return []any{600000 + x*1000, 1650000 + arr[1].(float64)*1000}
+		}
+		for i := range arr {
+			arr[i] = scale(arr[i])
+		}
+		return arr
+	}
+	for _, f := range fc["features"].([]any) {
+		g := f.(map[string]any)["geometry"].(map[string]any)
+		g["coordinates"] = scale(g["coordinates"])
+	}
+	data, err := json.Marshal(fc)
+	if err != nil {
+		t.Fatal(err)
+	}
+	write(t, dir, "campus.geojson", string(data))
+	_, msg, code := run(t, "check", plan)
+	if code != exitInvalid {
+		t.Fatalf("check, projected: exit %d, want %d: %s", code, exitInvalid, msg)
+	}
+	wantLines(t, "check, projected", msg, "", []string{ghost,
+		campus + `: feature #0 "HALL": geometry: ring 1: got [606980, 1696520]: coordinates look projected (metres or feet?), and so do positions of 15 more features of this file (#1 (LAB), #2 (LODGE), #3 (STORE), …); reproject to WGS84 longitude/latitude, or name their system in a "crs" member of the FeatureCollection ({"type": "name", "properties": {"name": "EPSG:<code>"}}; needs a build with PROJ)`,
+	})
+
+	// The file in a state-plane system its "crs" names, refused whole by a build without
+	// PROJ: nothing of it is read, so the plan's names wait.
+	if _, err := crs.ToWGS84(2965); !errors.Is(err, crs.ErrNoPROJ) {
+		t.Skip("built with PROJ: EPSG:2965 is read")
+	}
+	write(t, dir, "campus.geojson", strings.Replace(string(data), `{`, `{"crs":{"type":"name","properties":{"name":"EPSG:2965"}},`, 1))
+	_, msg, code = run(t, "check", plan)
+	if code != exitInvalid {
+		t.Fatalf("check, crs: exit %d, want %d: %s", code, exitInvalid, msg)
+	}
+	if n := len(strings.Split(strings.TrimSpace(msg), "\n")); n != 1 || !strings.Contains(msg, campus+": crs: EPSG:2965 is not WGS84 longitude/latitude") {
+		t.Errorf("check, crs: %d lines, want the crs problem alone:\n%s", n, msg)
+	}
 }

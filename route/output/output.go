@@ -371,46 +371,78 @@ func acceptanceText(l *routing.Leg) []string {
 	return append(row, "", "", "")
 }
 
-// metresText finds a length in metres in a text of the rules ("a 247.41 m channel").
-var metresText = regexp.MustCompile(`(\d+(?:\.\d+)?) m\b`)
+// lengthText finds, in one pass, what InUnits converts: a setting of an input file in a
+// metric unit followed by its value ("snap_m 0.5", "design.max_lateral_m 30 m", "duct_mm
+// 100 mm"; groups 1 to 4), a diameter in millimetres, or two ("innerduct 33/27 mm":
+// outside and inside; groups 5 and 6), and a length in metres ("a 247.41 m channel"; group
+// 7). A setting comes first so that its value is not converted as a bare length.
+var lengthText = regexp.MustCompile(`\b([a-z][a-z0-9_]*_(m|mm)) (\d+(?:\.\d+)?)( (?:m|mm)\b)?|(\d+(?:\.\d+)?)(?:/(\d+(?:\.\d+)?))? mm\b|(\d+(?:\.\d+)?) m\b`)
 
-// mmText finds a diameter in millimetres, or two ("innerduct 33/27 mm": outside and inside).
-var mmText = regexp.MustCompile(`(\d+(?:\.\d+)?)(?:/(\d+(?:\.\d+)?))? mm\b`)
-
-// InUnits writes the lengths in metres of a reason from the rule engine or an item of the
-// bill in the run's units: in feet, with as many decimals, when imperial (1 ft = 0.3048 m
-// exactly); and diameters in millimetres in inches, with two decimals ("innerduct 1.30/1.06
-// in").
+// InUnits writes the lengths in metres of a reason from the rule engine, a warning or an
+// item of the bill in the run's units: in feet, with as many decimals, when imperial (1 ft =
+// 0.3048 m exactly); diameters in millimetres in inches, with two decimals ("innerduct
+// 1.30/1.06 in"). The value of a setting the user writes in a metric unit (a key ending _m
+// or _mm) keeps that unit, the run's after it, to a tenth of a foot at least: "beyond
+// snap_m 0.5 m (1.6 ft)", "snap_m 3 m (9.8 ft)" (tester 15 F9: "beyond snap_m 0.5" beside
+// lengths in feet read as feet).
 func InUnits(opt WriteOptions, text string) string {
 	if !opt.imperial() {
 		return text
 	}
-	text = mmText.ReplaceAllStringFunc(text, func(m string) string {
-		parts := mmText.FindStringSubmatch(m)
-		var out []string
-		for _, num := range parts[1:] {
-			if num == "" {
-				continue
-			}
-			v, err := strconv.ParseFloat(num, 64)
-			if err != nil {
-				return m
-			}
-			out = append(out, strconv.FormatFloat(UnitsOf(opt).MM(v), 'f', 2, 64))
-		}
-		return strings.Join(out, "/") + " in"
-	})
-	return metresText.ReplaceAllStringFunc(text, func(m string) string {
-		num := strings.TrimSuffix(m, " m")
+	u := UnitsOf(opt)
+	ft := func(num string, dec int) string { // with as many decimals as num, at least dec
 		v, err := strconv.ParseFloat(num, 64)
 		if err != nil {
+			return ""
+		}
+		if i := strings.IndexByte(num, '.'); i >= 0 {
+			dec = max(dec, len(num)-i-1)
+		}
+		return strconv.FormatFloat(u.M(v), 'f', dec, 64) + " ft"
+	}
+	in := func(num string) string {
+		v, err := strconv.ParseFloat(num, 64)
+		if err != nil {
+			return ""
+		}
+		return strconv.FormatFloat(u.MM(v), 'f', 2, 64)
+	}
+	return lengthText.ReplaceAllStringFunc(text, func(m string) string {
+		g := lengthText.FindStringSubmatch(m)
+		switch {
+		case g[1] != "":
+			if g[4] != "" && strings.TrimSpace(g[4]) != g[2] { // "x_m 3 mm": not its unit
+				return m
+			}
+			if g[2] == "m" {
+				if f := ft(g[3], 1); f != "" {
+					return g[1] + " " + g[3] + " m (" + f + ")"
+				}
+				return m
+			}
+			if i := in(g[3]); i != "" {
+				return g[1] + " " + g[3] + " mm (" + i + " in)"
+			}
+			return m
+		case g[5] != "":
+			var out []string
+			for _, num := range g[5:7] {
+				if num == "" {
+					continue
+				}
+				i := in(num)
+				if i == "" {
+					return m
+				}
+				out = append(out, i)
+			}
+			return strings.Join(out, "/") + " in"
+		default:
+			if f := ft(g[7], 0); f != "" {
+				return f
+			}
 			return m
 		}
-		dec := 0
-		if i := strings.IndexByte(num, '.'); i >= 0 {
-			dec = len(num) - i - 1
-		}
-		return strconv.FormatFloat(UnitsOf(opt).M(v), 'f', dec, 64) + " ft"
 	})
 }
 

@@ -7,6 +7,7 @@ import (
 	"encoding/json"
 	"fmt"
 	"math"
+	"regexp"
 	"slices"
 	"spanwright/route"
 	"spanwright/route/internal/testplan"
@@ -208,8 +209,39 @@ func TestReasonsInUnits(t *testing.T) {
 	rows := testplan.ReadCSV(t, data)
 	reason := slices.Index(rows[0], "reason")
 	for _, row := range rows[1:] {
-		if m := metresText.FindString(row[reason]); m != "" {
+		if m := bareMetres.FindString(row[reason]); m != "" {
 			t.Errorf("%s %s: imperial reason still says %q", row[0], row[1], m)
+		}
+	}
+}
+
+// bareMetres finds a length in metres that is not a setting's value (TestSettingsInUnits).
+var bareMetres = regexp.MustCompile(`(?:^|[^_a-z0-9] )(\d+(?:\.\d+)?) m\b`)
+
+// TestSettingsInUnits (tester 15 F9): a setting the user writes in metres or millimetres
+// (snap_m, design.max_lateral_m, duct_mm) is printed in an imperial run with its own unit and
+// the run's after it to a tenth of a foot at least, "snap_m 0.5 m (1.6 ft)", whether the
+// message gave the unit or not;
+// a bare length beside it is in feet as before. 1 ft = 0.3048 m and 1 in = 25.4 mm exactly
+// (NIST SP 811 (2008) B.8): 0.5 m is 1.64 ft, 30 m 98.43 ft, 100 mm 3.94 in.
+func TestSettingsInUnits(t *testing.T) {
+	t.Parallel()
+	for _, c := range []struct{ in, want string }{
+		{"it ends 3.0 m from pathway P-2, beyond snap_m 0.5", "it ends 9.8 ft from pathway P-2, beyond snap_m 0.5 m (1.6 ft)"},
+		{"within 0.5 m (design: snap_m); snap_m 3 would join it", "within 1.6 ft (design: snap_m); snap_m 3 m (9.8 ft) would join it"},
+		{"within design.max_lateral_m 30 m of it", "within design.max_lateral_m 30 m (98.4 ft) of it"},
+		{"duct_mm 100 mm, innerduct 33/27 mm", "duct_mm 100 mm (3.94 in), innerduct 1.30/1.06 in"},
+		{"riser_m 15.25 m riser", "riser_m 15.25 m (50.03 ft) riser"},
+		{"snap_m (design)", "snap_m (design)"},
+	} {
+		if got := InUnits(WriteOptions{Units: UnitsImperial}, c.in); got != c.want {
+			t.Errorf("imperial %q:\n got %s\nwant %s", c.in, got, c.want)
+		}
+		if got := InUnits(WriteOptions{}, c.in); got != c.in {
+			t.Errorf("metric %q: %s", c.in, got)
+		}
+		if m := bareMetres.FindString(InUnits(WriteOptions{Units: UnitsImperial}, c.in)); m != "" {
+			t.Errorf("imperial %q: a bare length in metres left: %q", c.in, m)
 		}
 	}
 }

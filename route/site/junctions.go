@@ -66,8 +66,8 @@ func (s *Site) Hub(p *plan.Plan) (string, error) {
 // and not one run later (tester 14 F8). An id of a feature read without a kind (rd.Unsure)
 // may be a building's, and is taken as one. A plan without a hub takes the campus's mc: that
 // none has role mc is said only when every feature's kind is known and no building's role
-// has a problem of its own (a misspelt "MC" is that building's problem, not the plan's). Nil
-// for a nil rd.
+// has a problem of its own (a misspelt "MC" is that building's problem, not the plan's, and
+// so is a role given under "ROLE": rd.RoleUnread). Nil for a nil rd.
 func CheckNames(rd *geo.Partial, campusErr error, p *plan.Plan) []error {
 	if rd == nil {
 		return nil
@@ -82,7 +82,7 @@ func CheckNames(rd *geo.Partial, campusErr error, p *plan.Plan) []error {
 		}
 	}
 	var errs []error
-	if _, err := s.Hub(p); err != nil && (p.Hub != "" || len(rd.Unsure) == 0 && !roleProblem(campusErr)) {
+	if _, err := s.Hub(p); err != nil && (p.Hub != "" || len(rd.Unsure) == 0 && !rd.RoleUnread && !roleProblem(campusErr)) {
 		errs = append(errs, err)
 	}
 	return append(errs, s.UnknownBuildings(p)...)

@@ -7,6 +7,8 @@ import (
 	"errors"
 	"os"
 	"path/filepath"
+	"regexp"
+	"slices"
 	"strings"
 	"testing"
 
@@ -177,4 +179,55 @@ func explained(t *testing.T, name string, data []byte) map[string]bool {
 		}
 	}
 	return keys
+}
+
+// templateKey is a key line of a starter file, live or commented out ("# key: value"):
+// its indent, name and whether a comment holds it.
+var templateKey = regexp.MustCompile(`^(#\s?)?( *)([a-z][a-z0-9_]*):(\s|$)`)
+
+// TestTemplateKeysOnce checks that each starter file gives every key once, counting the
+// keys commented out, which a comment invites the user to uncomment: a key both
+// commented and live (review: tester 15 F13, maintenance_hole_entry_each at two prices
+// with two paragraphs) would be refused as given twice once uncommented. And each
+// commented key of the price book, uncommented alone, parses (a key of the book, not
+// given live as well). Common practice, no published source: one key, one paragraph.
+func TestTemplateKeysOnce(t *testing.T) {
+	for _, name := range []string{"prices.yaml", "plan.yaml"} {
+		data, err := starter.File(name)
+		if err != nil {
+			t.Fatal(err)
+		}
+		lines := strings.Split(string(data), "\n")
+		at := map[string]int{}
+		var parents []string // the key path by indent, a level per two spaces
+		commented := 0
+		for i, l := range lines {
+			m := templateKey.FindStringSubmatch(l)
+			if m == nil {
+				continue
+			}
+			depth := len(m[2]) / 2
+			if depth > len(parents) {
+				depth = len(parents)
+			}
+			parents = append(parents[:depth], m[3])
+			path := strings.Join(parents, ".")
+			if first, ok := at[path]; ok {
+				t.Errorf("%s: key %s at line %d and again at line %d", name, path, first, i+1)
+			}
+			at[path] = i + 1
+			if m[1] == "" || name != "prices.yaml" {
+				continue
+			}
+			commented++
+			un := slices.Clone(lines)
+			un[i] = strings.TrimPrefix(strings.TrimPrefix(l, "#"), " ")
+			if _, err := media.ParsePriceBook(name, []byte(strings.Join(un, "\n"))); err != nil {
+				t.Errorf("%s:%d: uncommenting %s: %v", name, i+1, m[3], err)
+			}
+		}
+		if name == "prices.yaml" && commented == 0 {
+			t.Errorf("%s: no commented key found: the test reads the template's form wrongly", name)
+		}
+	}
 }
