@@ -1,6 +1,7 @@
 package media
 
 import (
+	"cmp"
 	"crypto/sha256"
 	_ "embed"
 	"encoding/hex"
@@ -106,8 +107,16 @@ type Construction struct {
 	// DirectBurialRated says the construction may be laid in the earth with no duct (a
 	// direct-buried pathway, type buried): catalog key direct_burial_rated, false when absent.
 	DirectBurialRated bool
-	JacketColour      string        // the medium's colour unless the construction overrides it
-	Attenuation       []Attenuation // ascending wavelength; empty for copper
+	// MetallicMembers says a fibre construction has non-current-carrying metallic members
+	// (armour, a metallic strength member or moisture barrier): a conductive optical fibre cable
+	// in NFPA 70 Article 770's words, whose members are bonded or grounded where it enters a
+	// building from outside (BondingEnds). Catalog key metallic_members: read from an Article 770
+	// listing when the construction has one (OFC…, conductive; OFN…, nonconductive), which the
+	// key may repeat but not contradict; required when it has none (MetallicFromListing).
+	// Always false for copper, whose conductors take the primary protector instead.
+	MetallicMembers bool
+	JacketColour    string        // the medium's colour unless the construction overrides it
+	Attenuation     []Attenuation // ascending wavelength; empty for copper
 	// Minimum bend radius as a multiple of the cable's outside diameter, with no load and at
 	// rated pulling tension.
 	BendRadiusUnloadedOD float64
@@ -402,6 +411,7 @@ type constructionYAML struct {
 	OutdoorRated         bool            `yaml:"outdoor_rated"`
 	PlenumRated          bool            `yaml:"plenum_rated"`
 	DirectBurialRated    bool            `yaml:"direct_burial_rated"`
+	MetallicMembers      bool            `yaml:"metallic_members"`
 	JacketColour         string          `yaml:"jacket_colour"`
 	Attenuation          map[int]float64 `yaml:"attenuation_db_per_km" range:"db-per-km" keyrange:"nm"`
 	BendRadiusUnloadedOD float64         `yaml:"bend_radius_unloaded_od" range:"od"`
@@ -719,6 +729,9 @@ func (c checker) construction(cy constructionYAML, item string, m *Medium, mediu
 	if cy.Pos.Has("jacket_colour") {
 		k.JacketColour = cy.JacketColour
 	}
+	if !c.metallic(cy, item, m, k) {
+		ok = false
+	}
 	if m.Kind == KindCopper && len(cy.Attenuation) > 0 {
 		c.bad(cy.Pos, item, "attenuation_db_per_km", ErrBadValue, "copper has no optical attenuation; remove the key")
 		ok = false
@@ -788,6 +801,56 @@ func (c checker) construction(cy constructionYAML, item string, m *Medium, mediu
 		return nil
 	}
 	return k
+}
+
+// MetallicFromListing is what an NFPA 70 Article 770 listing says of a fibre cable's metallic
+// members: OFC, OFCG, OFCR and OFCP (conductive) have them, OFN, OFNG, OFNR and OFNP
+// (nonconductive) have none, a suffix such as -LS aside (NFPA 70 Article 770, listings, seen);
+// known is false for no listing or another one, where the catalog must say
+// (metallic_members).
+func MetallicFromListing(listing string) (metallic, known bool) {
+	switch {
+	case strings.HasPrefix(listing, "OFC"):
+		return true, true
+	case strings.HasPrefix(listing, "OFN"):
+		return false, true
+	}
+	return false, false
+}
+
+// metallic sets k.MetallicMembers from cy's listing and metallic_members, or reports what is
+// wrong: the key on copper, a key that contradicts the listing, or no key where the listing
+// does not tell. An unlisted fibre construction must say: outside-plant cable is made both
+// all-dielectric and armoured, and either guess is wrong on some bill (one without the
+// bonding the code asks for, or one with bonding a dielectric cable does not take).
+func (c checker) metallic(cy constructionYAML, item string, m *Medium, k *Construction) bool {
+	has := cy.Pos.Has("metallic_members")
+	if m.Kind == KindCopper {
+		if has {
+			c.bad(cy.Pos, item, "metallic_members", ErrBadValue, "copper conductors are metal themselves and take a primary protector where they enter a building from outside; remove the key")
+			return false
+		}
+		return true
+	}
+	fromListing, known := MetallicFromListing(cy.Listing)
+	switch {
+	case known && has && cy.MetallicMembers != fromListing:
+		kind := map[bool]string{true: "conductive (it has metallic members)", false: "nonconductive (no metallic members)"}[fromListing]
+		c.bad(cy.Pos, item, "metallic_members", ErrBadValue, "listing %s is %s under NFPA 70 Article 770; want metallic_members: %t, or no key", cy.Listing, kind, fromListing)
+		return false
+	case known:
+		k.MetallicMembers = fromListing
+	case !has:
+		what := "it has no NFPA 70 Article 770 listing"
+		if cy.Listing != "" {
+			what = fmt.Sprintf("its listing %q is not one of Article 770's (OFN…, OFC…)", cy.Listing)
+		}
+		c.bad(cy.Pos, item, "metallic_members", ErrMissingField, "missing: %s, so say whether the cable has metallic members (armour, a metallic strength member or moisture barrier): metallic_members: true, which bills their bonding at each building it enters from outside, or false for an all-dielectric cable", what)
+		return false
+	default:
+		k.MetallicMembers = cy.MetallicMembers
+	}
+	return true
 }
 
 func (c checker) application(ay applicationYAML, item string, cat *Catalog, declared map[string]bool) *Application {
@@ -965,6 +1028,9 @@ func (c *Catalog) Table(w io.Writer, rateGbps float64) error {
 	if err := tw.Flush(); err != nil {
 		return err
 	}
+	if err := c.constructionTable(w, shown); err != nil {
+		return err
+	}
 	var meets []string
 	for _, m := range c.Media {
 		if len(m.Meets) > 0 {
@@ -984,6 +1050,55 @@ func (c *Catalog) Table(w io.Writer, rateGbps float64) error {
 	lines = append(lines, "ranges and losses per IEEE 802.3, see "+c.File)
 	_, err := io.WriteString(w, strings.Join(lines, "\n")+"\n")
 	return err
+}
+
+// constructionTable prints the constructions of the media shown: how each is listed, whether
+// it carries metal into a building (MetalText), where it may be laid and its pulling rating,
+// one row per medium and construction.
+func (c *Catalog) constructionTable(w io.Writer, shown map[string]bool) error {
+	tw := tabwriter.NewWriter(w, 0, 8, 2, ' ', 0)
+	fmt.Fprintln(tw)
+	fmt.Fprintln(tw, "medium\tconstruction\tname\tlisting\tmetal in the cable\toutdoors\tplenum\tdirect burial\tpull rating N")
+	yes := map[bool]string{true: "yes", false: "no"}
+	for _, m := range c.Media {
+		if !shown[m.ID] {
+			continue
+		}
+		for _, k := range m.Constructions {
+			fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\n", m.ID, k.ID, k.Name, cmp.Or(k.Listing, "unlisted"), k.MetalText(m),
+				yes[k.OutdoorRated], yes[k.PlenumRated], yes[k.DirectBurialRated], k.pullText())
+		}
+	}
+	return tw.Flush()
+}
+
+// MetalText says in a few words what metal a construction of medium m carries into a
+// building, as the media table and the bill print it: "copper conductors", "metallic members,
+// bonded at entrances" (MetallicMembers) or "none, all-dielectric".
+func (c *Construction) MetalText(m *Medium) string {
+	switch {
+	case m.Kind == KindCopper:
+		return "copper conductors"
+	case c.MetallicMembers:
+		return "metallic members, bonded at entrances"
+	}
+	return "none, all-dielectric"
+}
+
+// pullText is the construction's rated pulling tension in newtons, with the sizes rated
+// otherwise: "2670 (12-fibre 1335)".
+func (c *Construction) pullText() string {
+	t := fmt.Sprintf("%.0f", c.MaxPullN)
+	var own []string
+	for _, s := range c.Sizes {
+		if r := c.PullRatingN(s); r != c.MaxPullN {
+			own = append(own, fmt.Sprintf("%d-fibre %.0f", s.Count, r))
+		}
+	}
+	if len(own) > 0 {
+		t += " (" + strings.Join(own, ", ") + ")"
+	}
+	return t
 }
 
 func joinInts(v []int, sep string) string {

@@ -642,17 +642,25 @@ func (e *Engine) future(l Link, c *candidate) {
 // whether the PHY is duplex (2 fibres) or parallel (8 fibres in one module each end).
 // Labour, pathway and enclosures are not part of it, but for a transition's: with one, the
 // inside cable is l's (Link.transitionInsideM) at the candidate's ends, and what the
-// entrances there put on the bill besides cable is added (layingPrice, TransitionEnds).
+// entrances there put on the bill besides cable is added (layingPrice, TransitionEnds). On a
+// link that leaves the buildings, a construction with metallic members adds their bonding at
+// both ends of each cable (BondingEnds), with the cable.
 func (e *Engine) cost(c *candidate, channelM float64, l Link) (cableCents, totalCents int64) {
 	p := e.layingPrice(c.m, c.k, c.inside, c.at, c.strands)
 	term, _ := e.prices.Price(PriceKey{Item: PriceTermination, Medium: c.m.ID})
 	trx, _ := e.prices.Price(PriceKey{Item: PriceTransceiver, Name: c.a.Transceiver})
 	ends := 2 * int64(c.strands)
+	var bond int64
+	if l.Outdoor {
+		for _, q := range BondingEnds(c.k, 2*len(c.cables)) {
+			bond += e.prices.Cents(q)
+		}
+	}
 	// The cable bought: the channel with the design's waste, as the bill buys it (to whole
 	// metres there, a metre a piece at most).
 	bought := 1 + e.opt.WastePct/100
 	if c.inside == nil {
-		cableCents = MulCents(p.PerMCents, channelM*bought)
+		cableCents = MulCents(p.PerMCents, channelM*bought) + bond
 		return cableCents, cableCents + ends*term + 2*trx + c.b.attCents
 	}
 	// Outside-plant cable to the entrances of the transition, inside cable inside those
@@ -661,7 +669,7 @@ func (e *Engine) cost(c *candidate, channelM float64, l Link) (cableCents, total
 	// the bid items per cable end as labour.
 	ia, ib := l.transitionInsideM(channelM, c.at)
 	insideM := ia + ib
-	cableCents = MulCents(p.PerMCents, (channelM-insideM)*bought) + MulCents(p.InsidePerMCents, insideM*bought) + p.HardwareCents
+	cableCents = MulCents(p.PerMCents, (channelM-insideM)*bought) + MulCents(p.InsidePerMCents, insideM*bought) + p.HardwareCents + bond
 	c.labourCents = p.LabourCents
 	return cableCents, cableCents + c.labourCents + ends*term + 2*trx + c.b.attCents
 }

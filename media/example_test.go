@@ -72,6 +72,24 @@ func ExampleCatalog_Table() {
 	// om5     ofnr-riser, ofnp-plenum, indoor-outdoor, osp-loose-tube  3.50 dB/km at 850 nm, 1.50 dB/km at 1300 nm
 	// os2     ofnr-riser, ofnp-plenum                                  1.00 dB/km at 1310 nm, 1.00 dB/km at 1550 nm
 	// os2     indoor-outdoor, osp-loose-tube                           0.50 dB/km at 1310 nm, 0.50 dB/km at 1550 nm
+	//
+	// medium  construction    name                                                listing   metal in the cable    outdoors  plenum  direct burial  pull rating N
+	// om3     ofnr-riser      indoor riser, tight buffer                          OFNR      none, all-dielectric  no        no      no             1335
+	// om3     ofnp-plenum     indoor plenum, tight buffer                         OFNP      none, all-dielectric  no        yes     no             1335
+	// om3     indoor-outdoor  indoor/outdoor loose tube, riser listed             OFNR      none, all-dielectric  yes       no      no             2670 (12-fibre 1335)
+	// om3     osp-loose-tube  outside plant loose tube, all-dielectric, unlisted  unlisted  none, all-dielectric  yes       no      yes            2670
+	// om4     ofnr-riser      indoor riser, tight buffer                          OFNR      none, all-dielectric  no        no      no             1335
+	// om4     ofnp-plenum     indoor plenum, tight buffer                         OFNP      none, all-dielectric  no        yes     no             1335
+	// om4     indoor-outdoor  indoor/outdoor loose tube, riser listed             OFNR      none, all-dielectric  yes       no      no             2670 (12-fibre 1335)
+	// om4     osp-loose-tube  outside plant loose tube, all-dielectric, unlisted  unlisted  none, all-dielectric  yes       no      yes            2670
+	// om5     ofnr-riser      indoor riser, tight buffer                          OFNR      none, all-dielectric  no        no      no             1335
+	// om5     ofnp-plenum     indoor plenum, tight buffer                         OFNP      none, all-dielectric  no        yes     no             1335
+	// om5     indoor-outdoor  indoor/outdoor loose tube, riser listed             OFNR      none, all-dielectric  yes       no      no             2670 (12-fibre 1335)
+	// om5     osp-loose-tube  outside plant loose tube, all-dielectric, unlisted  unlisted  none, all-dielectric  yes       no      yes            2670
+	// os2     ofnr-riser      indoor riser, tight buffer                          OFNR      none, all-dielectric  no        no      no             1335
+	// os2     ofnp-plenum     indoor plenum, tight buffer                         OFNP      none, all-dielectric  no        yes     no             1335
+	// os2     indoor-outdoor  indoor/outdoor loose tube, riser listed             OFNR      none, all-dielectric  yes       no      no             2670 (12-fibre 1335)
+	// os2     osp-loose-tube  outside plant loose tube, all-dielectric, unlisted  unlisted  none, all-dielectric  yes       no      yes            2670
 	// connections: field acceptance (ANSI/TIA-568.3-D maxima) mated pair 0.75 dB, splice 0.30 dB; design mated pair 0.50 dB, splice 0.30 dB
 	// margins: what each mated pair and splice may lose at its ANSI/TIA-568.3-D maximum beyond its design loss (0.25 dB a pair, 0.00 dB a splice), plus 0.00 dB multimode, 0.00 dB single-mode; single-mode also 0.5 repair splices per km of outside plant
 	// higher grades: om4 also uses om3's figures; om5 also uses om4's figures

@@ -222,7 +222,7 @@ type Choice struct {
 	Construction string // e.g. "osp-loose-tube"
 	Losses       []Loss // fibre only, one per test wavelength, ascending; see Loss.Operating
 	CostCents    int64  // installed cost of the medium: cable, terminations, transceivers
-	CableCents   int64  // the cable part of CostCents (entrance transition enclosures and trays included); the rest is labour, terminations and transceivers
+	CableCents   int64  // the cable part of CostCents (entrance transition enclosures and trays, and on a link leaving the buildings the bonding of metallic members, BondingEnds, included); the rest is labour, terminations and transceivers
 	LabourCents  int64  // the entrance transitions' labour (splicing, inside cable ends, enclosure installation) and bid items per cable end, part of CostCents; 0 without
 	Inside       string // with an entrance transition: the listed construction Construction is spliced to at the entrances of InsideAt, which runs inside those buildings; "" without
 	InsideAt     Ends   // the ends with an entrance transition: EndsNone without, else one end or both

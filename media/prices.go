@@ -45,6 +45,7 @@ const (
 	PriceProtector     = "primary-protector" // a listed primary protector where a copper cable enters a building from outside, each cable end (optional)
 	PriceHoleWall      = "hole-wall"         // new duct entering an existing maintenance hole: wall penetration, duct terminators, seal, each (optional)
 	PricePoleRiser     = "pole-riser"        // a counted lateral's riser down a pole from the strand into the handhole at its foot, each (optional)
+	PriceBonding       = "member-bonding"    // bonding the metallic members of a fibre cable where it enters a building from outside, each cable end (optional; BondingEnds)
 
 	RatePull        = "pull-rate"        // metres pulled per hour: Name pathway type (duct, tunnel, aerial, buried, tray)
 	RateSplice      = "splice-rate"      // splices per hour
@@ -134,6 +135,8 @@ func (k PriceKey) Path() string {
 		return "maintenance_hole_entry_each"
 	case PricePoleRiser:
 		return "pole_riser_each"
+	case PriceBonding:
+		return "metallic_member_bonding_each"
 	case RatePull:
 		return "labour.pull_m_per_hour." + k.Name
 	case RateSplice:
@@ -235,11 +238,12 @@ func (p *PriceBook) Has(item string) bool {
 }
 
 // optionalItems are the price items a book may leave out whole (PriceBook.NotPriced).
-var optionalItems = []string{PriceEntrance, PriceFirestop, PricePatchCord, PriceSplicePoint, PriceProtector, PriceHoleWall, PricePoleRiser}
+var optionalItems = []string{PriceEntrance, PriceFirestop, PricePatchCord, PriceSplicePoint, PriceProtector, PriceHoleWall, PricePoleRiser, PriceBonding}
 
 // NotPriced reports whether k is a price the book leaves out on purpose: its item is one a book
 // may leave out whole (building_entrance_each, entrance_firestop_each, patch_cords_each,
-// splice_point_each, primary_protector_each, maintenance_hole_entry_each, pole_riser_each) and the book prices no key of that item; or it is a crew task (crew_each)
+// splice_point_each, primary_protector_each, maintenance_hole_entry_each, pole_riser_each,
+// metallic_member_bonding_each) and the book prices no key of that item; or it is a crew task (crew_each)
 // of a book that prices crews but not that task (a book without crew_each prices labour by the
 // hour alone, and the plan asks it for no crew task: items.Crew). A plan still needs what such
 // a price buys: Check does not ask for it, and Bill lists its quantity on a line with no price
@@ -442,6 +446,7 @@ type priceFile struct {
 	ProtectorEach       cents                               `yaml:"primary_protector_each"`
 	HoleEntryEach       cents                               `yaml:"maintenance_hole_entry_each"`
 	PoleRiserEach       cents                               `yaml:"pole_riser_each"`
+	BondingEach         cents                               `yaml:"metallic_member_bonding_each"`
 	CrewEach            map[string]cents                    `yaml:"crew_each"`
 	Labour              labourYAML                          `yaml:"labour"`
 	Transceivers        map[string]cents                    `yaml:"transceivers"`
@@ -668,6 +673,7 @@ func ParsePriceBook(name string, data []byte) (*PriceBook, error) {
 	scalar("primary_protector_each", PriceProtector, f.ProtectorEach)
 	scalar("maintenance_hole_entry_each", PriceHoleWall, f.HoleEntryEach)
 	scalar("pole_riser_each", PricePoleRiser, f.PoleRiserEach)
+	scalar("metallic_member_bonding_each", PriceBonding, f.BondingEach)
 	ports := func(key, item string, m map[int]cents) {
 		for _, n := range sortedInts(m) {
 			if n <= 0 {

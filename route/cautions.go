@@ -7,6 +7,7 @@ import (
 
 	"spanwright/geo"
 	"spanwright/geo/input"
+	"spanwright/media"
 	"spanwright/route/estimate"
 	"spanwright/route/routing"
 )
@@ -66,6 +67,7 @@ const (
 	CautionConfined = "confined-space"
 	CautionLaser    = "laser"
 	CautionCopper   = "copper-outdoor"
+	CautionMetallic = "metallic-members"
 )
 
 // PlanningAid says what spanwright's output is and is not: said wherever a plan's figures are
@@ -103,6 +105,30 @@ func pathways(ids []string) string {
 	return "pathways " + idList(ids)
 }
 
+// entering keeps the legs whose cable carries metal into buildings from outside (copper, or
+// fibre with metallic members) and the entrances where it does, each once, for the caution
+// that names both.
+type entering struct{ legs, at seenList }
+
+func (e *entering) add(l *routing.Leg) {
+	e.legs.add(l.Label())
+	for _, en := range []string{l.EntranceTo, l.EntranceFrom} {
+		if en != "" {
+			e.at.add(en)
+		}
+	}
+}
+
+// where names the legs and what is done at the entrances: "1 copper leg leaving a building:
+// A-B/primary; primary protectors at 2 entrances A:1, B:1".
+func (e *entering) where(one, many, done string) string {
+	w := input.Counted(len(e.legs.ids), one, many) + " leaving a building: " + idList(e.legs.ids)
+	if len(e.at.ids) > 0 {
+		w += "; " + done + " at " + input.Counted(len(e.at.ids), "entrance", "entrances") + " " + idList(e.at.ids)
+	}
+	return w
+}
+
 // seenList keeps ids in the order first seen, each once.
 type seenList struct {
 	ids  []string
@@ -128,7 +154,7 @@ func cautionsOf(r *Result) []Caution {
 	var aerial, tunnel, buried, holes seenList
 	aerialLegs, tunnelLegs, buriedLegs := 0, 0, 0
 	fibre := 0
-	var copperLegs, protectedAt seenList
+	var copper, metallic entering
 	facts := make([]legFacts, len(r.Legs)) // what each feasible leg's own work has, for Caution.legs
 	for i := range r.Legs {
 		l := &r.Legs[i]
@@ -176,14 +202,13 @@ func cautionsOf(r *Result) []Caution {
 			if m.Fibre() {
 				fibre++
 				f.fibre = true
+				if k := m.Construction(l.Construction); k != nil && k.MetallicMembers && l.Outdoor {
+					f.metallic = true
+					metallic.add(l)
+				}
 			} else if l.Outdoor {
 				f.copper = true
-				copperLegs.add(l.Label())
-				for _, en := range []string{l.EntranceTo, l.EntranceFrom} {
-					if en != "" {
-						protectedAt.add(en)
-					}
-				}
+				copper.add(l)
 			}
 		}
 	}
@@ -393,15 +418,17 @@ func cautionsOf(r *Result) []Caution {
 			Text:   "Light at 850, 1310 and 1550 nm is invisible and can injure the eye: never look into a fibre end or connector; use an inspection scope with a filter or a power meter.",
 			Source: "IEC 60825-1, -2 (from memory)"})
 	}
-	if len(copperLegs.ids) > 0 {
-		where := input.Counted(len(copperLegs.ids), "copper leg", "copper legs") + " leaving a building: " + idList(copperLegs.ids)
-		if len(protectedAt.ids) > 0 {
-			where += "; primary protectors at " + input.Counted(len(protectedAt.ids), "entrance", "entrances") + " " + idList(protectedAt.ids)
-		}
+	if len(copper.legs.ids) > 0 {
 		add(Caution{ID: CautionCopper, Title: "Lightning and ground potential rise on copper between buildings",
-			Where:  where,
+			Where:  copper.where("copper leg", "copper legs", "primary protectors"),
 			Text:   "Copper entering a building from outside needs a listed primary protector at the entrance and bonding; all-dielectric fibre between buildings avoids both.",
 			Source: "NFPA 70 Articles 800 and 805, 800.90 (seen)"})
+	}
+	if len(metallic.legs.ids) > 0 {
+		add(Caution{ID: CautionMetallic, Title: "Metal in fibre cable between buildings",
+			Where:  metallic.where("fibre leg with metallic members", "fibre legs with metallic members", "members bonded"),
+			Text:   "Armour or a metallic strength member carries lightning and ground potential rise into a building as copper does: bond or ground the metallic members as close as practicable to where the cable enters, to the building's intersystem bonding termination, or interrupt them there with an insulating joint, before the cable is worked on inside; the bill's \"" + media.BondingItem + "\" line counts each cable end.",
+			Source: "NFPA 70 Article 770, 770.93 and 770.100 (from memory)"})
 	}
 
 	// Which legs' own work calls for each caution: the same sets as above, asked of each leg
@@ -477,6 +504,7 @@ func cautionsOf(r *Result) []Caution {
 		CautionConfined: func(i int) bool { return facts[i].holes || hasKind(i, kTunnel) },
 		CautionLaser:    func(i int) bool { return facts[i].fibre },
 		CautionCopper:   func(i int) bool { return facts[i].copper },
+		CautionMetallic: func(i int) bool { return facts[i].metallic },
 	}
 	for k := range out {
 		call, ok := calls[out[k].ID]
@@ -500,8 +528,8 @@ type legFacts struct {
 	spans, junctions map[string]bool
 	// buildings are the leg's two ends and entrances the entrance it uses at each (the
 	// counted laterals it takes), index for index.
-	entrances, buildings                         []string
-	aerial, tunnel, buried, holes, fibre, copper bool
+	entrances, buildings                                   []string
+	aerial, tunnel, buried, holes, fibre, copper, metallic bool
 }
 
 // pit is a handhole the plan sets, dug where a crew works: its place as the structures table

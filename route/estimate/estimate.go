@@ -1627,6 +1627,11 @@ func legItems(s *site.Site, eng *media.Engine, d plan.Design, l *routing.Leg) []
 	if !fibre && l.Outdoor {
 		add(media.CategoryMaterial, ProtectorItem, media.UnitEach, ends, media.PriceKey{Item: media.PriceProtector})
 	}
+	if fibre && l.Outdoor {
+		// The outside cables' metallic members, if any, bonded where each end enters its
+		// building (with a transition too: the outside cable enters before its splice).
+		qs = append(qs, media.BondingEnds(m.Construction(l.Construction), 2*len(t.Cables))...)
+	}
 	if a := eng.Catalog().Application(l.Application); a != nil {
 		add(media.CategoryOptics, "transceiver "+a.Transceiver, media.UnitEach, 2, media.PriceKey{Item: media.PriceTransceiver, Name: a.Transceiver})
 	}
@@ -1885,7 +1890,7 @@ func (r *run) intoExistingDuct() func(span string) bool {
 }
 
 // legCost prices a leg's bill items one by one (media.PriceBook.Cents) into its breakdown:
-// cables, transitions and reel joins as cable; terminations, patch cords, primary
+// cables, transitions, reel joins and the bonding of metallic members as cable; terminations, patch cords, primary
 // protectors and transceivers as optics; labour; innerduct as construction.
 func legCost(p *media.PriceBook, qs []media.Quantity) routing.LegCost {
 	var c routing.LegCost

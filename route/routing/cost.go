@@ -913,7 +913,7 @@ func (m *Model) addOption(s *site.Site, dm *optimize.Demand, info *demandInfo, m
 	// and the crew's work at its ends; a diverse link pays them again for its second leg,
 	// when it gets one.
 	fixed += media.MulCents(perM, items.Wasted(d, e.ends)) + m.cents(items.Times(float64(cables), e.endItems...)...) +
-		m.bidPer(media.BidBases{Structures: 1}, e.entered*float64(cables)) + e.legBid + transition
+		m.bidPer(media.BidBases{Structures: 1}, e.entered*float64(cables)) + e.legBid + transition + m.bondingCents(mm, lay, info.strands, e.outside)
 	second := int64(0)
 	if e.diverse {
 		second = fixed
@@ -936,6 +936,23 @@ func (m *Model) addOption(s *site.Site, dm *optimize.Demand, info *demandInfo, m
 		info.layings = map[string]media.Laying{}
 	}
 	info.layings[name] = lay
+}
+
+// bondingCents is what bonding the metallic members of the cables of laying lay of medium mm
+// for strands strands costs at the buildings they enter from outside (media.BondingEnds, the
+// bill's and the engine's item: two ends a cable), when the laying's outside construction has
+// such members and a route may leave the buildings (outside: the campus has spans outside
+// them or the link a lateral, as every laying besides the medium's first). The option is priced before its route is known: a first
+// option whose route stays inside is charged it all the same, a model simplification (no
+// published source) that only a catalog with a listed conductive construction (OFCR, OFCP)
+// meets, and none on the embedded catalog, whose constructions are all-dielectric.
+func (m *Model) bondingCents(mm *media.Medium, lay media.Laying, strands int, outside bool) int64 {
+	k := mm.Construction(lay.Construction)
+	if k == nil || !k.MetallicMembers || !outside {
+		return 0
+	}
+	c, _ := m.eng.Cables(mm, k, strands)
+	return m.cents(media.BondingEnds(k, 2*len(c))...)
 }
 
 // reachM is the longest channel, in metres, over which medium carries a link of facts with

@@ -116,7 +116,7 @@ type Leg struct {
 // four parts are links.csv's cost columns; README ("links.csv") maps them onto the bill's
 // categories.
 type LegCost struct {
-	CableCents  int64 // bill material: cable, entrance transition enclosures, mid-span closures, their splice trays, attenuators
+	CableCents  int64 // bill material: cable, entrance transition enclosures, mid-span closures, their splice trays, attenuators, the bonding of metallic members
 	LabourCents int64 // bill labour: pulls, splicing, terminating, testing, crew tasks
 	// ConstructionCents is its innerduct (bill material) and its share of new construction as
 	// the optimizer prices it (bill construction: trench, added duct, handholes, entrances),

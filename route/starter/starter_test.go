@@ -231,3 +231,39 @@ func TestTemplateKeysOnce(t *testing.T) {
 		}
 	}
 }
+
+// TestTemplateSmallItems (tester 15 F14): the template offers, commented out, the small items
+// every US outside-plant bid carries (tracer wire and warning tape over new buried work:
+// common practice, no published source) as bid items per metre of new trench and bore, and the
+// bonding of metallic members at entrances (NFPA 70 770.93, from memory); each example is a
+// valid entry once its # is taken off, and says where pull tape and duct plugs are priced.
+func TestTemplateSmallItems(t *testing.T) {
+	data, err := starter.File("prices.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	text := string(data)
+	for _, want := range []string{"  # - {id: tracer-wire,", "  # - {id: warning-tape,", "# metallic_member_bonding_each: ", "Pull tape", "Duct plugs"} {
+		if !strings.Contains(text, want) {
+			t.Errorf("template lacks %q", want)
+		}
+	}
+	on := strings.NewReplacer("  # - {id: tracer-wire,", "  - {id: tracer-wire,", "  # - {id: warning-tape,", "  - {id: warning-tape,",
+		"# metallic_member_bonding_each: ", "metallic_member_bonding_each: ").Replace(text)
+	p, err := media.ParsePriceBook("prices.yaml", []byte(on))
+	if err != nil {
+		t.Fatalf("the template with its examples taken in: %v", err)
+	}
+	var ids []string
+	for _, b := range p.BidItems {
+		if b.Basis == media.BasisNewBuriedM {
+			ids = append(ids, b.ID)
+		}
+	}
+	if got := strings.Join(ids, ","); got != "locates,tracer-wire,warning-tape" {
+		t.Errorf("bid items per metre of new buried work %q, want locates,tracer-wire,warning-tape", got)
+	}
+	if p.NotPriced(media.PriceKey{Item: media.PriceBonding}) {
+		t.Error("metallic_member_bonding_each taken in but not priced")
+	}
+}
