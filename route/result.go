@@ -46,6 +46,10 @@ type Result struct {
 	// LowerBoundCents is a proved lower bound on ObjectiveCents over every plan that serves the
 	// same legs (routing.Routed.LowerBoundCents); -1 when none was computed (length objective).
 	LowerBoundCents int64
+	// CrossingAvoidedCents is what keeping diverse legs off junctions where ducts cross with
+	// no structure costs by that objective, all such links together
+	// (routing.Routed.CrossingAvoidedCents).
+	CrossingAvoidedCents int64
 
 	// Estimate is the installation takeoff and priced bill of materials (see Estimate).
 	Estimate *estimate.Estimate
@@ -175,7 +179,8 @@ func SolveFrom(ctx context.Context, s *site.Site, p *plan.Plan, eng *media.Engin
 		pr.notes = append(pr.notes, startNote(start, hub, links, rt.StartUnused, rt.StartNoRoom)...)
 	}
 	r := &Result{Plan: p, Site: s, Hub: hub, Links: links, Legs: rt.Legs, Currency: eng.PriceBook().Currency, Engine: eng,
-		Opened: rt.Opened, Handholes: rt.Handholes, Fill: rt.Fill, ObjectiveCents: rt.ObjectiveCents, LowerBoundCents: rt.LowerBoundCents, Notes: pr.notes}
+		Opened: rt.Opened, Handholes: rt.Handholes, Fill: rt.Fill, ObjectiveCents: rt.ObjectiveCents, LowerBoundCents: rt.LowerBoundCents,
+		CrossingAvoidedCents: rt.CrossingAvoidedCents, Notes: pr.notes}
 	if start != nil {
 		r.StartedFrom = start.From
 	}

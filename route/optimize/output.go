@@ -11,13 +11,19 @@ import (
 func (sv *solver) solution() *Solution {
 	sv.flush()
 	avoided := make([]int64, len(sv.p.Demands))
+	var offDs []int
+	var offAlts []choice
 	for d := range sv.p.Demands {
 		if sv.p.Demands[d].Diverse {
-			avoided[d] = sv.crossingAvoided(d)
+			var alt choice
+			if avoided[d], alt = sv.crossingAvoided(d); alt.opt >= 0 {
+				offDs, offAlts = append(offDs, d), append(offAlts, alt)
+			}
 		}
 	}
+	joint := sv.crossingJoint(offDs, offAlts)
 	p, st := sv.p, sv.st
-	sol := &Solution{Routes: make([]Route, len(p.Demands)), Rounds: sv.rounds, LowerBoundCents: sv.planBound(), StartUnused: sv.startUnused,
+	sol := &Solution{CrossingAvoidedCents: joint, Routes: make([]Route, len(p.Demands)), Rounds: sv.rounds, LowerBoundCents: sv.planBound(), StartUnused: sv.startUnused,
 		StartNoRoom: sv.startNoRoom}
 	for d := range p.Demands {
 		dm := &p.Demands[d]

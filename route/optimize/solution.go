@@ -202,6 +202,11 @@ type Solution struct {
 	// duct there has room and none may be added,
 	// or a cable is wider than one duct takes. Nil when there are none.
 	StartNoRoom []StartNoRoom
+	// CrossingAvoidedCents is what keeping the diverse demands off shared places
+	// (Problem.Sites) costs together: TotalCents less the objective of the plan with every
+	// demand whose Route.CrossingAvoidedCents is above 0 moved onto its cheaper pair at once.
+	// The routes' own figures each hold the rest of the plan fixed and need not add up to it.
+	CrossingAvoidedCents int64
 }
 
 // StartNoRoom is a demand whose start route was placed afresh because its cables did not fit

@@ -512,9 +512,11 @@ type Summary struct {
 	DiverseSinglePoint int `json:"diverse_single_point"`
 	// DiverseOffCrossing counts, of DiverseLinks, those whose legs are kept off a junction
 	// where ducts cross with no structure that a cheaper pair would share, and
-	// DiverseOffCrossingCents what that costs, by the optimizer's objective (the legs'
-	// routing.Leg.CrossingAvoidedCents, each against the final plan): part of ObjectiveCents
-	// the lower bound, which does not know such places, cannot see.
+	// DiverseOffCrossingCents what that costs, all of them together, by the optimizer's
+	// objective (routing.Routed.CrossingAvoidedCents: the plan against the plan with each of
+	// them on its cheaper pair; the legs' own figures, routing.Leg.CrossingAvoidedCents, each
+	// hold the rest of the plan fixed and need not add up to it): part of ObjectiveCents the
+	// lower bound, which does not know such places, cannot see.
 	DiverseOffCrossing      int   `json:"diverse_off_crossing"`
 	DiverseOffCrossingCents int64 `json:"diverse_off_crossing_cents"`
 	// CrossingLegs counts the feasible legs whose route passes through a building (in at one
@@ -794,7 +796,6 @@ func Summarize(r *route.Result) Summary {
 		}
 		if l.CrossingAvoidedCents > 0 {
 			s.DiverseOffCrossing++
-			s.DiverseOffCrossingCents += l.CrossingAvoidedCents
 		}
 		if len(l.Crosses) > 0 {
 			s.CrossingLegs++
@@ -834,6 +835,7 @@ func Summarize(r *route.Result) Summary {
 	}
 	s.ObjectiveCents = r.ObjectiveCents
 	s.LowerBoundCents, s.GapPct = BoundGap(r.ObjectiveCents, r.LowerBoundCents)
+	s.DiverseOffCrossingCents = r.CrossingAvoidedCents
 	s.ModelCents += r.ExtraCents
 	s.TotalCents = s.ModelCents
 	s.WarningCounts = map[string]int{"network": len(r.Site.Net.Warnings)}

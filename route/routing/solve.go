@@ -40,6 +40,10 @@ type Routed struct {
 	// serving the same legs (optimize.Solution.LowerBoundCents); -1 when none was computed
 	// (the length objective).
 	LowerBoundCents int64
+	// CrossingAvoidedCents is what keeping diverse legs off junctions where ducts cross with
+	// no structure costs, all such links together (optimize.Solution.CrossingAvoidedCents);
+	// each diverse leg's own figure is Leg.CrossingAvoidedCents.
+	CrossingAvoidedCents int64
 	// ConstantCents is what the plan pays whatever its routes: the entrances of buildings with
 	// one (items.Entrance), used as soon as a leg ends there, and the handholes where their
 	// counted laterals tap a duct, one per junction (prepaidTaps).
@@ -244,6 +248,7 @@ func SolveFrom(ctx context.Context, s *site.Site, m *Model, links []site.Link, s
 // no used tap paid (prepaidTaps).
 func (m *Model) measure(ctx context.Context, s *site.Site, lay *layout, prob *optimize.Problem, sol *optimize.Solution, links []site.Link, infos []demandInfo, runs []site.NewRun, r *Routed) (legs [][]Leg, unpaid int64, err error) {
 	r.ObjectiveCents, r.LowerBoundCents, r.Fill = sol.TotalCents, sol.LowerBoundCents, fillReport(s, prob, sol)
+	r.CrossingAvoidedCents = sol.CrossingAvoidedCents
 	r.Opened, r.Runs, r.Legs = nil, nil, nil // fresh: a copy of r (SolveFrom's mend) keeps its own
 	for _, e := range sol.Opened {
 		r.Opened = append(r.Opened, s.Net.Spans[e].ID)
