@@ -193,9 +193,9 @@ func printReport(w io.Writer, rep *sweep.Report, shard sweep.Shard) {
 	}
 	switch {
 	case rep.Incomplete > 0 && rep.OKSets > 1:
-		fmt.Fprintf(w, "note: %s ok but ranked apart: the price book leaves items out of the total, so each is ranked only among scenarios leaving out the same items (rank and pareto say \"(without …)\"; see compare.md's notes)\n", scenarios(rep.Incomplete))
+		fmt.Fprintf(w, "note: %s ok but ranked apart: the price book leaves items out of the total, so each is ranked only among scenarios leaving out the same items (rank says \"1 of 3 without …\", pareto \"yes (without …)\"; see compare.md's notes)\n", scenarios(rep.Incomplete))
 	case rep.Incomplete > 0:
-		fmt.Fprintf(w, "note: %s ok, every total leaving out the same items the price book does not price: ranked together, on totals without them (rank and pareto say \"(without …)\"; see compare.md's notes)\n", scenarios(rep.Incomplete))
+		fmt.Fprintf(w, "note: %s ok, every total leaving out the same items the price book does not price: ranked together, on totals without them (rank says \"1 of 3 without …\", pareto \"yes (without …)\"; see compare.md's notes)\n", scenarios(rep.Incomplete))
 	}
 	if rep.DemoPrices > 0 {
 		fmt.Fprintf(w, "warning: %s priced by the invented demo price book built into spanwright: not a quotation (see each summary.json)\n", scenarios(rep.DemoPrices))

@@ -31,11 +31,11 @@ const (
 // bomUnit is a BOM line's unit, quantity and unit price at the output edge, and the
 // decimals the price is shown with: metres become feet when imperial, the price per foot
 // then being perFoot's (the extended price, the metric line's in whole cents, over the feet
-// shown, to as many decimals as make the row extend), shown to perFootDecimals (tester 14
-// F15: 1.0058403 USD/ft is no price an estimator reads): bom.xlsx keeps the value, so that its
-// extension formula gives the extended price, and shows four decimals; bom.csv writes four
-// and says in a note how far its rows then are from extending (perFootNote). The extended
-// price never changes. A
+// shown, to as many decimals as make the row extend), shown in bom.csv and bom.xlsx alike to
+// those decimals, so that quantity × unit price as printed, rounded to the cent, is the
+// extended price in either file (tester 15 F6: bom.csv wrote four decimals, 88,707.6 ft ×
+// 1.0058 = 89,222.10 against 89,225.40, and a bid spreadsheet re-extending it got another
+// total). The extended price never changes. A
 // cable line's feet are the pieces the cable schedule cuts for it, as written (cut, the
 // tenths of a foot of cutOf), so that they add up to the line as whole metres do in metric.
 func bomUnit(opt WriteOptions, l media.BOMLine, cut cableCut) (unit string, qty, unitPrice float64, priceDecimals int) {
@@ -47,36 +47,15 @@ func bomUnit(opt WriteOptions, l media.BOMLine, cut cableCut) (unit string, qty,
 		if tenths, ok := cut[l.Price]; ok && l.Price.Item == media.PriceCable {
 			ft = float64(tenths) / 10
 		}
-		unitPrice, _ = perFoot(l.ExtendedCents, ft, unitPrice*install.MPerFt)
-		return "ft", ft, unitPrice, perFootDecimals
+		unitPrice, priceDecimals = perFoot(l.ExtendedCents, ft, unitPrice*install.MPerFt)
+		return "ft", ft, unitPrice, priceDecimals
 	}
 	return unit, qty, unitPrice, priceDecimals
 }
 
-// perFootDecimals is the decimals a price per foot shows, in bom.csv as in bom.xlsx's number
-// format: a hundredth of a cent a foot, finer than cable is quoted. Common practice, no
-// published source.
+// perFootDecimals is the fewest decimals a price per foot shows: a hundredth of a cent a foot,
+// finer than cable is quoted. Common practice, no published source.
 const perFootDecimals = 4
-
-// perFootNote is bom.csv's note when a price per foot shown to perFootDecimals does not
-// extend to its row's extended price (the book's price per metre times the metres, the one
-// total every output prints): the largest difference, so that an estimator checking the
-// extensions knows what to expect; "" when every row extends or the bill is metric.
-func perFootNote(opt WriteOptions, b *media.BOM, cut cableCut) string {
-	worst := 0.0
-	for _, l := range b.Lines {
-		unit, qty, price, dp := bomUnit(opt, l, cut)
-		if unit != "ft" || l.NotPriced || l.PercentOf != nil {
-			continue
-		}
-		worst = max(worst, math.Abs(qty*roundHalfAway(price, dp)-money(l.ExtendedCents)))
-	}
-	if worst < extendsWithin {
-		return ""
-	}
-	return fmt.Sprintf("prices per ft are shown to %d decimals; each extended price is the price book's per-metre price times the metres, so quantity times the price as shown differs from it by up to %s here (the totals are exact)",
-		perFootDecimals, media.FormatCents(int64(math.Ceil(worst*100))))
-}
 
 // perFoot is the price per foot of a line of extendedCents over shownFt feet (as the row
 // shows them) and the decimals it is written with, the one decision behind bom.csv's and
@@ -191,9 +170,6 @@ func bomCSV(out io.Writer, r *route.Result, opt WriteOptions) error {
 		media.FormatCents(b.TaxBaseCents), media.FormatCents(b.TaxCents), "", markupKey + "tax"})
 	w.Write([]string{rowTotal, b.Label, "", "", "", media.FormatCents(b.TotalCents), "", ""})
 	if note := PricedNoteOf(r); note != "" {
-		w.Write([]string{rowNote, note, "", "", "", "", "", ""})
-	}
-	if note := perFootNote(opt, b, cut); note != "" {
 		w.Write([]string{rowNote, note, "", "", "", "", "", ""})
 	}
 	if note := SafetyNote(r); note != "" {

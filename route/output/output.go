@@ -758,12 +758,33 @@ func TotalsOf(r *route.Result) Totals {
 // gave 28,096.7 m over rows adding up to 28,096.8 m (tester 14 F14).
 func RouteListed(u Units, r *route.Result) float64 {
 	var dm int64 // tenths of the unit
-	for _, l := range r.Legs {
-		if l.Feasible {
-			dm += int64(math.Round(u.Rounded(l.RouteM, 1) * 10))
-		}
+	for _, n := range routeListedDM(u, r) {
+		dm += n
 	}
 	return float64(dm) / 10
+}
+
+// RouteListedBy is RouteListed of the feasible legs of each medium, the report's "Links by
+// medium" rows, which thus add up to the total route printed above them (tester 15 F8: the
+// rows summed the exact lengths, 27,619.9 m under a total of 27,620.0 m).
+func RouteListedBy(u Units, r *route.Result) map[string]float64 {
+	out := map[string]float64{}
+	for m, dm := range routeListedDM(u, r) {
+		out[m] = float64(dm) / 10
+	}
+	return out
+}
+
+// routeListedDM is the one rule behind RouteListed and RouteListedBy: per medium, the tenths
+// of the unit of each feasible leg's route as links.csv lists it, added up.
+func routeListedDM(u Units, r *route.Result) map[string]int64 {
+	dm := map[string]int64{}
+	for _, l := range r.Legs {
+		if l.Feasible {
+			dm[l.Medium] += int64(math.Round(u.Rounded(l.RouteM, 1) * 10))
+		}
+	}
+	return dm
 }
 
 // Summarize digests the result.

@@ -6,7 +6,7 @@ import (
 	"encoding/csv"
 	"encoding/json"
 	"fmt"
-	"math"
+	"math/big"
 	"regexp"
 	"slices"
 	"spanwright/route"
@@ -109,15 +109,17 @@ func campusCase(n int) plannedCase {
 	}}
 }
 
-// TestImperialBOMUnitPrices: with --units imperial a price per foot shows four decimals, a
-// hundredth of a cent a foot (tester 14 F15: 1.0058403 USD/ft is no price an estimator reads;
-// common practice, no published source), and the extended price stays the metric line's, so
-// that the totals agree in either units. bom.xlsx keeps the price that extends (review 4
-// finding 2: four decimals left rows of the 200-building campus off by up to 7.45 USD), so
-// its extension formula gives the extended price to the cent, |q × p − x| < 0.005, and shows
-// it to four decimals; in bom.csv, which writes four, a row is off by at most half a unit of
-// the fourth decimal a foot, and a note says by how much at most. The bill's total is
-// summary.json's. On the demo and the generated campus of 200 buildings (campusfiles, seed 1).
+// TestImperialBOMUnitPrices: with --units imperial a length line's extended price stays the
+// metric line's, so that the totals agree in either units, and its price per foot is written
+// with as many decimals as make the row re-extend (four at least, a hundredth of a cent a foot:
+// common practice, no published source): the quantity as bom.csv prints it times the unit
+// price as it prints it, worked out exactly in decimal and rounded half away from zero to the
+// cent, is the extended price it prints (tester 15 F6: 88,707.6 ft × 1.0058 gave 89,222.10
+// against 89,225.40; a bid spreadsheet re-extends every row: common practice, no published
+// source). bom.xlsx holds and shows the same price, so its live extension formula gives the
+// same cents, and bom.csv needs no note on prices per foot. The bill's total is summary.json's.
+// On the demo and the generated campus of 200 buildings (campusfiles, seed 1), whose lines of
+// hundreds of thousands of feet need seven decimals or more.
 func TestImperialBOMUnitPrices(t *testing.T) {
 	t.Parallel()
 	for _, tc := range []plannedCase{demoCase, campusCase(200)} {
@@ -135,38 +137,41 @@ func TestImperialBOMUnitPrices(t *testing.T) {
 				t.Fatal(err)
 			}
 			defer x.Close()
-			n := 0
-			worst := 0.0
+			n, most := 0, 0
 			for i, row := range rows[1:] {
 				if row[2] != "ft" || row[5] == "" {
 					continue
 				}
 				n++
-				q, _ := strconv.ParseFloat(row[3], 64)
-				p, _ := strconv.ParseFloat(row[4], 64)
-				xc, _ := plan.ParseCents(row[5])
-				ext := float64(xc) / 100
-				worst = max(worst, math.Abs(q*p-ext))
-				if math.Abs(q*p-ext) > q*0.00005+0.005 {
-					t.Errorf("%s: %s ft × %s = %.4f, extended %s: more than half a unit of the fourth decimal a foot", row[1], row[3], row[4], q*p, row[5])
+				xc, err := plan.ParseCents(row[5])
+				if err != nil {
+					t.Fatal(err)
 				}
-				if _, dec, _ := strings.Cut(row[4], "."); len(dec) != perFootDecimals {
-					t.Errorf("%s: unit price %s, want %d decimals", row[1], row[4], perFootDecimals)
+				if got := reExtendCents(t, row[3], row[4]); got != xc {
+					t.Errorf("%s: %s ft × %s re-extends to %d cents, extended %s", row[1], row[3], row[4], got, row[5])
 				}
-				// The cell holds the price that extends, which the CSV shows to four decimals.
+				_, dec, _ := strings.Cut(row[4], ".")
+				if len(dec) < perFootDecimals {
+					t.Errorf("%s: unit price %s, want %d decimals at least", row[1], row[4], perFootDecimals)
+				}
+				most = max(most, len(dec))
+				// The cell holds the price bom.csv prints, and its formula re-extends it.
 				v, _ := x.Value("bill of materials", fmt.Sprintf("E%d", i+2))
 				xv, err := strconv.ParseFloat(v, 64)
-				if err != nil || math.Abs(q*xv-ext) >= 0.005 || strconv.FormatFloat(xv, 'f', perFootDecimals, 64) != row[4] {
-					t.Errorf("%s: bom.xlsx unit price %q (× %s ft = %.4f, extended %s), bom.csv %q", row[1], v, row[3], q*xv, row[5], row[4])
+				if p, _ := strconv.ParseFloat(row[4], 64); err != nil || xv != p {
+					t.Errorf("%s: bom.xlsx unit price %q, bom.csv %q", row[1], v, row[4])
+				}
+				f, _ := x.Formula("bill of materials", fmt.Sprintf("F%d", i+2))
+				if want := fmt.Sprintf("ROUND(D%d*E%d,2)", i+2, i+2); f != want {
+					t.Errorf("%s: bom.xlsx extension %q, want %q", row[1], f, want)
 				}
 			}
-			note := false
 			for _, row := range rows {
-				note = note || row[0] == rowNote && strings.HasPrefix(row[1], "prices per ft are shown to 4 decimals")
+				if row[0] == rowNote && strings.Contains(row[1], "prices per ft") {
+					t.Errorf("bom.csv: a note on prices per ft, where every row re-extends: %q", row[1])
+				}
 			}
-			if note != (worst >= extendsWithin) {
-				t.Errorf("bom.csv: note on prices per ft %v, rows off by up to %.4f", note, worst)
-			}
+			t.Logf("%d lines in feet, prices with up to %d decimals", n, most)
 			if n == 0 {
 				t.Fatal("no priced line in feet")
 			}
@@ -356,4 +361,25 @@ func TestImperialInnerduct(t *testing.T) {
 			t.Errorf("%q bom.csv: no item %q", c.opt.Units, c.want)
 		}
 	}
+}
+
+// reExtendCents is quantity × unit price, both as a CSV prints them, in exact decimal
+// arithmetic, rounded half away from zero to the cent (as a spreadsheet's ROUND does).
+func reExtendCents(t *testing.T, qty, price string) int64 {
+	t.Helper()
+	q, ok1 := new(big.Rat).SetString(qty)
+	p, ok2 := new(big.Rat).SetString(price)
+	if !ok1 || !ok2 {
+		t.Fatalf("quantity %q or unit price %q is no decimal", qty, price)
+	}
+	c := new(big.Rat).Mul(q, p)
+	c.Mul(c, big.NewRat(100, 1))
+	neg := c.Sign() < 0
+	c.Abs(c)
+	c.Add(c, big.NewRat(1, 2))
+	cents := new(big.Int).Quo(c.Num(), c.Denom()).Int64()
+	if neg {
+		cents = -cents
+	}
+	return cents
 }

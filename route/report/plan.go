@@ -748,7 +748,7 @@ func costBars(r *route.Result) ([]bar, string) {
 func mediaRows(r *route.Result, opt Options, med map[string]mediumInfo, order []string) []mediumRow {
 	legs := map[string]int{}
 	links := map[string]map[string]bool{}
-	metres := map[string]float64{}
+	listed := output.RouteListedBy(opt.units(), r) // in the report's unit, as the total route
 	cost := map[string]int64{}
 	for _, l := range r.Legs {
 		if !l.Feasible {
@@ -759,12 +759,11 @@ func mediaRows(r *route.Result, opt Options, med map[string]mediumInfo, order []
 			links[l.Medium] = map[string]bool{}
 		}
 		links[l.Medium][l.Link.ID] = true
-		metres[l.Medium] += l.RouteM
 		cost[l.Medium] += l.Cost.TotalCents()
 	}
 	out := make([]mediumRow, 0, len(order))
 	for _, id := range order {
-		out = append(out, mediumRow{Info: med[id], Links: len(links[id]), Legs: legs[id], Route: opt.length(metres[id]), Cost: money(cost[id])})
+		out = append(out, mediumRow{Info: med[id], Links: len(links[id]), Legs: legs[id], Route: group(strconv.FormatFloat(listed[id], 'f', 1, 64)), Cost: money(cost[id])})
 	}
 	return out
 }

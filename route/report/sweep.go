@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"html/template"
 	"math"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -103,7 +104,13 @@ type sweepView struct {
 	// Reports and Planned count the planned scenarios whose folder holds a report (a sweep
 	// run with --full) and all planned ones: the page says where the cautions are read.
 	Reports, Planned int
+	// Unserved are the sets of legs scenarios leave unserved (sweep.UnservedSets), named once
+	// below the table, as compare.md does: the rank and Pareto cells only count them.
+	Unserved []unservedLine
 }
+
+// unservedLine is one set of unserved legs, with the scenarios that leave it.
+type unservedLine struct{ IDs, Legs string }
 
 // Sweep renders a sweep's comparison as one self-contained HTML page: the table of every
 // scenario (its overrides, status, cost, budget, margin, trench, diverse routes, media,
@@ -145,7 +152,14 @@ func sweepViewOf(c *sweep.Comparison, opt SweepOptions) *sweepView {
 		v.Cols = append(v.Cols, sweepCol{k, false})
 	}
 	v.Cols = append(v.Cols,
-		sweepCol{"status", false}, sweepCol{"total cost (" + cur + ")", true}, sweepCol{"budget", true},
+		sweepCol{"status", false}, sweepCol{"total cost (" + cur + ")", true})
+	// A total of the served legs only, beside the total cost it is not (blank in its row),
+	// when some row has one (sweep.Row.ServedLegsTotal; tester 15 F7).
+	served := slices.ContainsFunc(c.Rows, func(j sweep.Judged) bool { _, ok := j.ServedLegsTotal(); return ok })
+	if served {
+		v.Cols = append(v.Cols, sweepCol{"total of the served legs only (" + cur + ")", true})
+	}
+	v.Cols = append(v.Cols, sweepCol{"budget", true},
 		sweepCol{"over budget", true}, sweepCol{"infeasible legs", true}, sweepCol{"worst margin (dB)", true},
 		sweepCol{"new trench (" + lu.Length + ")", true})
 	// The new construction by kind (sweep.Row.NewConstruction), as compare.csv has it.
@@ -199,7 +213,7 @@ func sweepViewOf(c *sweep.Comparison, opt SweepOptions) *sweepView {
 				v.Reports++
 			}
 		}
-		row := sweepRowOf(j, c.Keys, lu)
+		row := sweepRowOf(j, c.Keys, lu, served)
 		for i := range row.Cells {
 			row.Cells[i].Num = v.Cols[i].Num
 		}
@@ -209,10 +223,19 @@ func sweepViewOf(c *sweep.Comparison, opt SweepOptions) *sweepView {
 		v.Cheapest = fmt.Sprintf("%s at %s %s", sweep.TiedText(cheapest), money(cheapestCents), c.Currency)
 	}
 	v.Plot = scatterOf(c)
+	rows := make([]sweep.Row, len(c.Rows))
+	for i := range c.Rows {
+		rows[i] = c.Rows[i].Row
+	}
+	sets := sweep.UnservedSets(rows)
+	for n, set := range sets {
+		v.Unserved = append(v.Unserved, unservedLine{IDs: sweep.SetLabel(n, len(sets)) + strings.Join(set.IDs, ", "),
+			Legs: output.Counted(len(set.Legs), "leg", "legs") + ": " + strings.Join(set.Legs, ", ")})
+	}
 	return v
 }
 
-func sweepRowOf(j *sweep.Judged, keys []string, lu output.Units) sweepRow {
+func sweepRowOf(j *sweep.Judged, keys []string, lu output.Units, served bool) sweepRow {
 	planned := j.Status != sweep.StatusFailed
 	text := func(s string) sweepCell { return sweepCell{Text: s, Sort: s} }
 	intc := func(n int, ok bool) sweepCell {
@@ -269,14 +292,17 @@ func sweepRowOf(j *sweep.Judged, keys []string, lu output.Units) sweepRow {
 	if j.DiverseSinglePoint != nil {
 		spof = intc(*j.DiverseSinglePoint, planned)
 	}
-	pareto := text(sweep.ParetoText(&j.Row, j.Pareto))
-	row.Cells = append(row.Cells, text(j.Status), moneyc(j.TotalCents, planned), budget,
-		over, intc(j.InfeasibleLegs, planned), margin, length(j.NewTrenchM, planned))
+	pareto := text(sweep.ParetoText(&j.Row, j.Pareto, j.LegSet))
+	row.Cells = append(row.Cells, text(j.Status), moneyc(j.Total()))
+	if served {
+		row.Cells = append(row.Cells, moneyc(j.ServedLegsTotal()))
+	}
+	row.Cells = append(row.Cells, budget, over, intc(j.InfeasibleLegs, planned), margin, length(j.NewTrenchM, planned))
 	for _, k := range estimate.NewKinds {
 		row.Cells = append(row.Cells, length(j.NewConstruction(k)))
 	}
 	row.Cells = append(row.Cells, intc(j.DiverseLinks, planned), spof, intc(j.DiverseMissing, planned), text(j.MediaMix),
-		rankc(&j.Row, j.Rank), pareto, intc(j.Warnings, planned), text(j.Error))
+		rankc(j), pareto, intc(j.Warnings, planned), text(j.Error))
 	hh, cautions := sweepCell{}, sweepCell{} // blank in rows written before they were kept
 	if j.HandholesToBuild != nil {
 		hh = intc(*j.HandholesToBuild, planned)
@@ -387,16 +413,16 @@ func scatterOf(c *sweep.Comparison) scatter {
 			margin = dB(*j.WorstMarginDB) + " dB"
 		}
 		p := plotPoint{X: num(x), Y: num(y), Class: "pt pt-ok",
-			Title: fmt.Sprintf("#%d %s: %s %s, worst margin %s, %s", j.Index, j.ID, money(j.TotalCents), c.Currency, margin, j.Status)}
+			Title: fmt.Sprintf("#%d %s: %s %s%s, worst margin %s, %s", j.Index, j.ID, money(j.TotalCents), c.Currency, servedOnly(&j.Row), margin, j.Status)}
 		switch {
 		case j.Status == sweep.StatusInfeasible:
 			p.Class = "pt pt-infeasible"
 			if j.Rank > 0 { // the rank names what its total leaves out
-				p.Title += ", " + rankWord + sweep.RankText(&j.Row, j.Rank)
+				p.Title += ", " + rankWord + sweep.RankText(&j.Row, j.Rank, j.Of, j.LegSet)
 			}
 		case j.Incomplete():
 			p.Class = "pt pt-incomplete"
-			p.Title += ", " + apartWord + "its total leaves out " + j.Exclusion() + ", ranked " + sweep.RankText(&j.Row, j.Rank)
+			p.Title += ", " + apartWord + "its total leaves out " + j.Exclusion() + ", ranked " + sweep.RankText(&j.Row, j.Rank, j.Of, j.LegSet)
 		case j.Pareto:
 			p.Class = "pt pt-pareto"
 			p.Label = "#" + strconv.Itoa(j.Index)
@@ -449,12 +475,20 @@ func decimals(ticks []float64) int {
 	return min(d, 3)
 }
 
-// rankc is a scenario's rank cell: the rank, sorting as a number, with what an incomplete
-// total leaves out (sweep.RankText).
-func rankc(r *sweep.Row, rank int) sweepCell {
-	if rank <= 0 {
+// servedOnly is what follows a plotted total that prices the served legs only
+// (sweep.Row.ServedLegsTotal), "" after a complete one.
+func servedOnly(r *sweep.Row) string {
+	if _, ok := r.ServedLegsTotal(); ok {
+		return " for the served legs only"
+	}
+	return ""
+}
+
+// rankc is a scenario's rank cell: the rank, sorting as a number, with, for one ranked apart,
+// the size of its rank group and what sets it apart (sweep.RankText).
+func rankc(j *sweep.Judged) sweepCell {
+	if j.Rank <= 0 {
 		return sweepCell{}
 	}
-	n := strconv.Itoa(rank)
-	return sweepCell{Text: sweep.RankText(r, rank), Sort: n}
+	return sweepCell{Text: sweep.RankText(&j.Row, j.Rank, j.Of, j.LegSet), Sort: strconv.Itoa(j.Rank)}
 }

@@ -169,7 +169,9 @@ func TestSweepReportHidden(t *testing.T) {
 // TestSweepReportRanksUnserved: scenarios with infeasible legs are ranked among those leaving
 // the same legs unserved (tester 10's finding 5); the report counts them, puts the rank in the
 // point's tooltip, and never calls one the cheapest: its total leaves out the legs it cannot
-// serve (common practice, no published source: bids are compared on the same scope).
+// serve (common practice, no published source: bids are compared on the same scope). Its
+// total cost cell is blank, the total of its served legs in a column of its own, its rank cell
+// counts the legs and the legs are named once, below the table (tester 15 F7).
 func TestSweepReportRanksUnserved(t *testing.T) {
 	t.Parallel()
 	unserved := []string{"ADM-LIB/diverse"}
@@ -184,7 +186,11 @@ func TestSweepReportRanksUnserved(t *testing.T) {
 	}
 	html := string(b)
 	for _, want := range []string{"2 with infeasible legs ranked apart, each among those leaving the same legs unserved",
-		"cheapest ok: #0 ok-dear at 500,000.00 USD", "ranked apart: 1 (without leg ADM-LIB/diverse)", "ranked apart: 2 (without leg ADM-LIB/diverse)"} {
+		"cheapest ok: #0 ok-dear at 500,000.00 USD", "ranked apart: 1 of 2 leaving 1 leg unserved", "ranked apart: 2 of 2 leaving 1 leg unserved",
+		"400,000.00 USD for the served legs only",
+		`<td data-v="infeasible">infeasible</td><td data-v="" class="n"></td><td data-v="40000000" class="n">400,000.00</td>`,
+		`<td data-v="1" class="n">1 of 2 leaving 1 leg unserved</td>`,
+		"<h3>Legs left unserved</h3>", "<li>short-cheap, short-dear: 1 leg: ADM-LIB/diverse</li>"} {
 		if !strings.Contains(html, want) {
 			t.Errorf("sweep report lacks %q", want)
 		}

@@ -32,6 +32,8 @@ const (
 type judged struct {
 	*Row
 	rank   int  // 1 for the cheapest of its Apart; 0 when not ranked
+	of     int  // the rows ranked with it (its rank group); 0 when not ranked
+	set    int  // its set of unserved legs, numbered (UnservedSets) when there are several; 0 otherwise
 	pareto bool // not dominated within its Apart; only ranked scenarios are judged
 }
 
@@ -63,6 +65,17 @@ func judge(rows []Row) []judged {
 	for _, k := range keys {
 		judgeGroup(rows, out, groups[k])
 	}
+	if sets := UnservedSets(rows); len(sets) > 1 {
+		number := map[string]int{}
+		for n, set := range sets {
+			number[set.key] = n + 1
+		}
+		for i := range out {
+			if rows[i].Ranked() {
+				out[i].set = number[rows[i].legsKey()]
+			}
+		}
+	}
 	return out
 }
 
@@ -77,6 +90,7 @@ func judgeGroup(rows []Row, out []judged, ok []int) {
 	byCost := append([]int(nil), ok...)
 	sort.SliceStable(byCost, func(a, b int) bool { return rows[byCost[a]].TotalCents < rows[byCost[b]].TotalCents })
 	for k, i := range byCost {
+		out[i].of = len(byCost)
 		if k > 0 && rows[i].TotalCents == rows[byCost[k-1]].TotalCents {
 			out[i].rank = out[byCost[k-1]].rank
 		} else {
@@ -139,10 +153,11 @@ func judgeGroup(rows []Row, out []judged, ok []int) {
 
 // ParetoText is a row's pareto cell: "yes" or "no" for an ok scenario, judged among the
 // complete ones, or for one ranked apart (Row.RankedApart: incomplete, or leaving legs
-// unserved) among those of its Apart, "yes (without …)" or "no (without …)" naming what its
-// total leaves out, e.g. "yes (without leg ADMN-LIBR/diverse)"; "" for a row not ranked
-// (Row.Ranked). compare.csv, compare.md and the sweep report all use it.
-func ParetoText(r *Row, pareto bool) string {
+// unserved) among those of its rank group, with what sets its total apart after it
+// (Row.ApartIn, its set of unserved legs numbered set), e.g. "yes (leaving 31 legs
+// unserved)", "no (without patch_cords_each)"; "" for a row not ranked (Row.Ranked).
+// compare.csv, compare.md and the sweep report all use it.
+func ParetoText(r *Row, pareto bool, set int) string {
 	text := "no"
 	if pareto {
 		text = "yes"
@@ -151,19 +166,23 @@ func ParetoText(r *Row, pareto bool) string {
 	case !r.Ranked():
 		return ""
 	case r.RankedApart():
-		return text + " (without " + r.Apart() + ")"
+		return text + " (" + r.ApartIn(set) + ")"
 	}
 	return text
 }
 
-// RankText is a row's cost rank cell: the rank among the complete ok scenarios, or for one
-// ranked apart the rank among those of its Apart, "1 (without …)"; "" when not ranked.
-func RankText(r *Row, rank int) string {
+// RankText is a row's cost rank cell: the rank among the complete ok scenarios, "1"; for one
+// ranked apart the rank among the of rows of its rank group and what sets them apart
+// (Row.ApartIn, its set of unserved legs numbered set), "1 of 4 leaving 31 legs unserved",
+// "2 of 3 without patch_cords_each"; "" when not ranked. Short whatever the legs (tester 15
+// F7): they are named in compare.csv's unserved_legs and below compare.md's table
+// (UnservedSets).
+func RankText(r *Row, rank, of, set int) string {
 	switch {
 	case rank == 0:
 		return ""
 	case r.RankedApart():
-		return strconv.Itoa(rank) + " (without " + r.Apart() + ")"
+		return strconv.Itoa(rank) + " of " + strconv.Itoa(of) + " " + r.ApartIn(set)
 	}
 	return strconv.Itoa(rank)
 }
@@ -269,7 +288,7 @@ func columnsIn(units string) []column {
 	return slices.Concat([]column{
 		textCol("status", "status", func(j judged) string { return j.Status }),
 		textCol("currency", "currency", func(j judged) string { return j.Currency }),
-		moneyCol("total_cost", "total cost", func(r *Row) int64 { return r.TotalCents }, planned),
+		figureCol("total_cost", "total cost", (*Row).Total),
 		moneyCol("plan_budget", "budget", func(r *Row) int64 { return *r.BudgetCents }, hasBudget),
 		overBudgetColumn(),
 		intCol("infeasible_legs", "infeasible legs", func(r *Row) int { return r.InfeasibleLegs }),
@@ -292,24 +311,24 @@ func columnsIn(units string) []column {
 		intCol("diverse_missing", "links lacking a diverse route", func(r *Row) int { return r.DiverseMissing }),
 		textCol("media_mix", "media (legs per medium)", func(j judged) string { return j.MediaMix }),
 		{"cost_rank", "rank by cost", "",
-			func(j judged) string { return RankText(j.Row, j.rank) },
+			func(j judged) string { return RankText(j.Row, j.rank, j.of, j.set) },
 			func(j judged) workbook.Cell {
 				switch {
 				case j.rank == 0:
 					return workbook.Blank()
 				case j.RankedApart(): // text: the totals' formulas match the complete ranks only
-					return workbook.Text(RankText(j.Row, j.rank))
+					return workbook.Text(RankText(j.Row, j.rank, j.of, j.set))
 				}
 				return workbook.Int(int64(j.rank))
 			}, nil},
 		{"pareto", "pareto optimal", "",
-			func(j judged) string { return ParetoText(j.Row, j.pareto) },
+			func(j judged) string { return ParetoText(j.Row, j.pareto, j.set) },
 			func(j judged) workbook.Cell {
 				switch {
 				case !j.Ranked():
 					return workbook.Blank()
 				case j.RankedApart():
-					return workbook.Text(ParetoText(j.Row, j.pareto))
+					return workbook.Text(ParetoText(j.Row, j.pareto, j.set))
 				}
 				return workbook.Bool(j.pareto)
 			}, nil},
@@ -377,7 +396,19 @@ func columnsIn(units string) []column {
 				}
 				return workbook.Bool(j.BudgetFeasibleOnly)
 			}, nil},
-	}, constructionColumns(units))
+	}, constructionColumns(units), []column{
+		// A total that leaves legs out, after the columns of earlier versions: the figure
+		// total_cost was for such a row before (blank there now), under a name that says what
+		// it covers, and the legs it leaves unserved, named once a row here (tester 15 F7).
+		figureCol("total_cost_served_legs_only", "total cost of the served legs only", (*Row).ServedLegsTotal),
+		textCol("unserved_legs", "legs left unserved", func(j judged) string { return strings.Join(j.Unserved, "; ") }),
+	})
+}
+
+// figureCol is a money column of a figure a row may not have: blank where get says false.
+func figureCol(csvName, human string, get func(*Row) (int64, bool)) column {
+	return moneyCol(csvName, human, func(r *Row) int64 { c, _ := get(r); return c },
+		func(j judged) bool { _, ok := get(j.Row); return ok })
 }
 
 // constructionColumns are the new construction by kind (Row.NewConstruction), one column of
@@ -536,9 +567,8 @@ func currencyOf(rows []Row) string {
 // worst_margin_db (two decimals, empty without fibre legs), new_trench_m (one decimal;
 // new_trench_ft under --units imperial, columnsIn),
 // diverse_links, diverse_single_point (of them, those whose two routes share a single point
-// of failure), diverse_missing, media_mix ("medium:legs" pairs), cost_rank, pareto
-// (yes/no; "no (incomplete)" for an ok scenario whose total leaves out items not priced,
-// which is not ranked either), warnings, error, note, then objective and lower_bound (currency units, empty
+// of failure), diverse_missing, media_mix ("medium:legs" pairs), cost_rank and pareto
+// (RankText, ParetoText), warnings, error, note, then objective and lower_bound (currency units, empty
 // without a bound) and gap_pct (the gap to the bound in percent, four decimals; empty
 // without a bound), started_from, handholes_to_build, the bill's subtotals cost_<category>
 // and markups contingency, overhead and tax, safety, and budget_feasible_legs_only (yes when
@@ -546,7 +576,9 @@ func currencyOf(rows []Row) string {
 // then the new construction by kind, new_construction_trench_m, _bore_m, _aerial_m (a pole
 // line), _tray_m and _tunnel_m (one decimal, _ft under --units imperial; empty for a failed
 // row and one of a rows file written before they were kept; trench and bore add up to
-// new_trench_m).
+// new_trench_m). Last, total_cost_served_legs_only and unserved_legs: a row leaving legs
+// unserved has total_cost blank and the total of the legs it serves there (Row.Total,
+// Row.ServedLegsTotal), and names the legs ("; " between them); blank for any other row.
 // compare.xlsx holds the same table, numbers as numbers, with a
 // second sheet of totals as formulas; compare.md the same as a Markdown table. Text from the
 // sweep (ids, case names, values, errors) is escaped for each file by package escape: no CSV
@@ -760,7 +792,7 @@ func compareMD(js []judged, keys []string, cur string, fixed []column) []byte {
 			k := j.group()
 			if _, seen := without[k]; !seen {
 				exclusions = append(exclusions, k)
-				apart[k] = j.Apart()
+				apart[k] = j.ApartIn(j.set)
 			}
 			without[k] = append(without[k], escape.MarkdownCode(j.ID))
 		default:
@@ -788,10 +820,10 @@ func compareMD(js []judged, keys []string, cur string, fixed []column) []byte {
 		if n.incomplete > 1 {
 			why = "their totals leave out items their price books do not price"
 		}
-		fmt.Fprintf(&b, "%s ranked apart: %s; each is ranked among those leaving out the same items, never against a complete total (rank and pareto say \"(without …)\"; see the notes).\n",
+		fmt.Fprintf(&b, "%s ranked apart: %s; each is ranked among those leaving out the same items, never against a complete total (rank says \"1 of 3 without …\", pareto \"yes (without …)\"; see the notes).\n",
 			output.Counted(n.incomplete, "ok scenario", "ok scenarios"), why)
 	case n.incomplete > 0:
-		fmt.Fprintf(&b, "%s: every total leaves out the same items, which the price books do not price; they are ranked together on those totals (rank and pareto say \"(without …)\"; see the notes).\n",
+		fmt.Fprintf(&b, "%s: every total leaves out the same items, which the price books do not price; they are ranked together on those totals (rank says \"1 of 3 without …\", pareto \"yes (without …)\"; see the notes).\n",
 			output.Counted(n.incomplete, "ok scenario", "ok scenarios"))
 	}
 	b.WriteString("\n")
@@ -799,7 +831,7 @@ func compareMD(js []judged, keys []string, cur string, fixed []column) []byte {
 		fmt.Fprintf(&b, "Pareto optimal: %s.\n\n", strings.Join(front, ", "))
 	}
 	for _, k := range exclusions {
-		fmt.Fprintf(&b, "Pareto optimal among scenarios without %s: %s.\n\n", escape.Markdown(apart[k]), strings.Join(without[k], ", "))
+		fmt.Fprintf(&b, "Pareto optimal among scenarios %s: %s.\n\n", escape.Markdown(apart[k]), strings.Join(without[k], ", "))
 	}
 	if c := cheapestMD(js); c != "" {
 		fmt.Fprintf(&b, "Cheapest ok scenario: %s.\n\n", c)
@@ -814,9 +846,12 @@ func compareMD(js []judged, keys []string, cur string, fixed []column) []byte {
 		align = append(align, "---")
 	}
 	var cols []column
-	for _, c := range fixed {
-		if c.csv == "error" || c.csv == "currency" || c.csv == "note" || c.csv == "safety" || c.csv == "budget_feasible_legs_only" {
-			continue // failures, notes and cautions are listed below the table; the currency is said above; the budget's scope beside over budget
+	for _, c := range mdOrder(fixed) {
+		if c.csv == "error" || c.csv == "currency" || c.csv == "note" || c.csv == "safety" || c.csv == "budget_feasible_legs_only" || c.csv == "unserved_legs" {
+			continue // failures, notes, cautions and unserved legs are listed below the table; the currency is said above; the budget's scope beside over budget
+		}
+		if c.csv == "total_cost_served_legs_only" && n.infeasible == 0 {
+			continue // no row has one
 		}
 		cols = append(cols, c)
 		h := c.human
@@ -850,6 +885,7 @@ func compareMD(js []judged, keys []string, cur string, fixed []column) []byte {
 			}
 		}
 	}
+	unservedSetsMD(&b, js)
 	safetyMD(&b, js)
 	if n.failed > 0 {
 		fmt.Fprintf(&b, "\n## Failed scenarios\n\n")
@@ -862,9 +898,42 @@ func compareMD(js []judged, keys []string, cur string, fixed []column) []byte {
 	return b.Bytes()
 }
 
-// unservedMD says, above compare.md's table, how scenarios with infeasible legs are ranked and
-// which legs leave them infeasible, each with how many scenarios leave it unserved, most
-// first: a leg that every planned scenario leaves unserved (a diverse route the campus does not
+// SetLabel begins the line of the n-th (0-based) of sets sets of unserved legs below the
+// comparison's table: "set 2: " when there are several, which the rank and pareto cells
+// name (RankText), "" for the only one.
+func SetLabel(n, sets int) string {
+	if sets < 2 {
+		return ""
+	}
+	return "set " + strconv.Itoa(n+1) + ": "
+}
+
+// mdOrder is the columns in compare.md's order: the total of the served legs only beside the
+// total cost, which is blank where it is set (compare.csv and compare.xlsx keep it after the
+// columns of earlier versions).
+func mdOrder(fixed []column) []column {
+	var served column
+	for _, c := range fixed {
+		if c.csv == "total_cost_served_legs_only" {
+			served = c
+		}
+	}
+	out := make([]column, 0, len(fixed))
+	for _, c := range fixed {
+		switch c.csv {
+		case "total_cost_served_legs_only":
+		case "total_cost":
+			out = append(out, c, served)
+		default:
+			out = append(out, c)
+		}
+	}
+	return out
+}
+
+// unservedMD says, above compare.md's table, how scenarios with infeasible legs are ranked,
+// how many legs some of them leave unserved (named below the table, unservedSetsMD) and which
+// legs every planned scenario leaves unserved: a leg that every planned scenario leaves unserved (a diverse route the campus does not
 // have, say) is no alternative's fault, and ranking the scenarios among those leaving the same
 // legs unserved keeps the rest of the comparison (tester 10's finding 5).
 func unservedMD(b *bytes.Buffer, js []judged, n tally) {
@@ -886,7 +955,7 @@ func unservedMD(b *bytes.Buffer, js []judged, n tally) {
 		}
 	}
 	if ranked > 0 {
-		fmt.Fprintf(b, "%s with infeasible legs ranked apart: each is ranked and Pareto-judged among those leaving the same legs unserved (and the same items unpriced), never against a scenario serving more (rank and pareto say \"(without leg …)\"); its total leaves out the legs it cannot serve.\n",
+		fmt.Fprintf(b, "%s with infeasible legs ranked apart: each is ranked and Pareto-judged among those leaving the same legs unserved (and the same items unpriced), never against a scenario serving more (rank says \"1 of 4 leaving 31 legs unserved\", pareto \"yes (leaving 31 legs unserved)\", with the number of the set below the table, \"leaving the 31 legs of set 1 unserved\", when there are several sets); its total leaves out the legs it cannot serve, so its total cost is blank and the total of the legs it serves is in its own column (total cost of the served legs only), not to be sorted with complete totals.\n",
 			output.Counted(ranked, "scenario", "scenarios"))
 	}
 	if left := n.infeasible - ranked; left > 0 {
@@ -902,12 +971,13 @@ func unservedMD(b *bytes.Buffer, js []judged, n tally) {
 	}
 	legs := slices.Collect(maps.Keys(count))
 	slices.SortFunc(legs, func(a, b string) int { return cmp.Or(count[b]-count[a], strings.Compare(a, b)) })
-	var every, some []string
+	var every []string
+	some := 0 // legs some planned scenarios serve
 	for _, l := range legs {
 		if count[l] == planned {
 			every = append(every, escape.MarkdownCode(l))
 		} else {
-			some = append(some, fmt.Sprintf("%s (%d of %d)", escape.MarkdownCode(l), count[l], planned))
+			some++
 		}
 	}
 	if len(every) > 0 {
@@ -916,14 +986,40 @@ func unservedMD(b *bytes.Buffer, js []judged, n tally) {
 			it = "them"
 		}
 		fmt.Fprintf(b, "Infeasible in every planned scenario, so no alternative of this sweep serves %s: %s.", it, strings.Join(every, ", "))
-		if len(some) > 0 {
+		if some > 0 {
 			b.WriteString(" ")
 		} else {
 			b.WriteString(" Each scenario folder's links.csv gives the reason.\n")
 		}
 	}
-	if len(some) > 0 {
-		fmt.Fprintf(b, "Legs left unserved, with the scenarios that leave them: %s. Each scenario folder's links.csv gives the reason.\n", strings.Join(some, ", "))
+	if some > 0 {
+		fmt.Fprintf(b, "%s left unserved by some of the scenarios, named below the table (Legs left unserved), each set with the scenarios that leave it. Each scenario folder's links.csv gives the reason.\n", output.Counted(some, "leg", "legs"))
+	}
+}
+
+// unservedSetsMD names, below compare.md's table, the legs the scenarios leave unserved, once:
+// each set (UnservedSets) with the scenarios that leave it, so that the table's rank and
+// pareto cells only count them (tester 15 F7).
+func unservedSetsMD(b *bytes.Buffer, js []judged) {
+	rows := make([]Row, len(js))
+	for i, j := range js {
+		rows[i] = *j.Row
+	}
+	sets := UnservedSets(rows)
+	if len(sets) == 0 {
+		return
+	}
+	fmt.Fprintf(b, "\n## Legs left unserved\n\n")
+	for n, s := range sets {
+		ids := make([]string, len(s.IDs))
+		for i, id := range s.IDs {
+			ids[i] = escape.MarkdownCode(id)
+		}
+		legs := make([]string, len(s.Legs))
+		for i, l := range s.Legs {
+			legs[i] = escape.MarkdownCode(l)
+		}
+		fmt.Fprintf(b, "- %s%s: %s: %s\n", SetLabel(n, len(sets)), strings.Join(ids, ", "), output.Counted(len(legs), "leg", "legs"), strings.Join(legs, ", "))
 	}
 }
 

@@ -151,7 +151,7 @@ func TestCompareMarkdown(t *testing.T) {
 	// terminal prints it in compare.md (output.PctText).
 	if !strings.Contains(csvText, ",objective,lower_bound,gap_pct,") ||
 		!strings.Contains(csvText, "0,a-1,,A|B,ok,EUR,1.50,1.00,0.50,0,1.23,0.0,2,1,0,os2:2,1,yes,0,,,1.20,1.00,4.4158,"+
-			",,,,,,,,,,,no,,,,,\n") { // a row without a start, a handhole count, subtotals, cautions or new construction by kind (as an earlier rows file's); its budget covers every leg
+			",,,,,,,,,,,no,,,,,,,\n") { // a row without a start, a handhole count, subtotals, cautions or new construction by kind (as an earlier rows file's); its budget covers every leg; it serves every leg
 		t.Errorf("compare.csv:\n%s", csvText)
 	}
 	if !strings.Contains(md, "| optimizer objective (EUR) | proved lower bound (EUR) | gap to the bound (%) |") ||

@@ -50,10 +50,10 @@ func TestJudgeRanksIncompleteApart(t *testing.T) {
 	wantRank := []int{1, 1, 2, 0}
 	wantPareto := []bool{true, true, false, false}
 	wantText := []string{"yes", "yes (without patch_cords_each)", "no", ""}
-	wantRankText := []string{"1", "1 (without patch_cords_each)", "2", ""}
+	wantRankText := []string{"1", "1 of 1 without patch_cords_each", "2", ""}
 	for i, j := range js {
-		if j.rank != wantRank[i] || j.pareto != wantPareto[i] || ParetoText(j.Row, j.pareto) != wantText[i] || RankText(j.Row, j.rank) != wantRankText[i] {
-			t.Errorf("%s: rank %d %q pareto %v %q, want %d %q %v %q", j.ID, j.rank, RankText(j.Row, j.rank), j.pareto, ParetoText(j.Row, j.pareto),
+		if j.rank != wantRank[i] || j.pareto != wantPareto[i] || ParetoText(j.Row, j.pareto, j.set) != wantText[i] || RankText(j.Row, j.rank, j.of, j.set) != wantRankText[i] {
+			t.Errorf("%s: rank %d %q pareto %v %q, want %d %q %v %q", j.ID, j.rank, RankText(j.Row, j.rank, j.of, j.set), j.pareto, ParetoText(j.Row, j.pareto, j.set),
 				wantRank[i], wantRankText[i], wantPareto[i], wantText[i])
 		}
 	}
@@ -65,7 +65,7 @@ func TestJudgeRanksIncompleteApart(t *testing.T) {
 		text := string(f.Data)
 		switch f.Name {
 		case CompareCSV:
-			if !strings.Contains(text, ",1 (without patch_cords_each),yes (without patch_cords_each),") {
+			if !strings.Contains(text, ",1 of 1 without patch_cords_each,yes (without patch_cords_each),") {
 				t.Errorf("compare.csv does not mark the incomplete scenario's rank and flag:\n%s", text)
 			}
 		case CompareMD:
@@ -104,7 +104,7 @@ func TestJudgeSameExclusionRanked(t *testing.T) {
 			t.Errorf("%s: rank %d pareto %v, want %d %v", j.ID, j.rank, j.pareto, wantRank[i], wantPareto[i])
 		}
 	}
-	if got := RankText(&rows[3], 1); got != "1 (without patch_cords_each, splice_point_each)" {
+	if got := RankText(&rows[3], js[3].rank, js[3].of, js[3].set); got != "1 of 1 without patch_cords_each, splice_point_each" {
 		t.Errorf("rank cell %q", got)
 	}
 }

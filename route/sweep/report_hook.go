@@ -17,6 +17,11 @@ type Judged struct {
 	// (Row.Incomplete: its total leaves out items its book does not price) is ranked among
 	// those leaving out the same items (Row.Exclusion), apart from the complete ones.
 	Rank int
+	// Of is the number of rows ranked with it (its rank group), for RankText; 0 when not ranked.
+	Of int
+	// LegSet is the number of its set of unserved legs (UnservedSets) when the rows leave
+	// more than one, for RankText and ParetoText; 0 otherwise.
+	LegSet int
 	// Pareto is set on an ok scenario that no other one of the same exclusion dominates on
 	// total cost (lower is better), worst loss margin (higher) and links missing a diverse
 	// route (fewer).
@@ -47,7 +52,7 @@ func Judge(rows []Row, keys []string) *Comparison {
 	js := judge(rows)
 	c := &Comparison{Keys: append([]string(nil), keys...), Rows: make([]Judged, len(js)), Currency: currencyOf(rows), RankSets: RankSets(rows, false), OKSets: RankSets(rows, true)}
 	for i, j := range js {
-		c.Rows[i] = Judged{Row: *j.Row, Rank: j.rank, Pareto: j.pareto, Dir: url.PathEscape(j.ID)}
+		c.Rows[i] = Judged{Row: *j.Row, Rank: j.rank, Of: j.of, LegSet: j.set, Pareto: j.pareto, Dir: url.PathEscape(j.ID)}
 	}
 	return c
 }

@@ -13,6 +13,7 @@ import (
 	"path/filepath"
 	"slices"
 	"sort"
+	"strconv"
 	"strings"
 
 	"spanwright/geo/input"
@@ -163,37 +164,95 @@ func (r *Row) fill(s output.Summary) {
 }
 
 // Apart is what sets a row's total apart from the complete totals of scenarios serving every
-// leg, for the comparison's rank and pareto cells ("1 (without …)"): the legs it leaves
-// unserved, "leg A/primary" or "legs A/primary, B/diverse" (Unserved, sorted), and the items
-// its total leaves out (Exclusion), joined by " and "; "" for an ok scenario pricing every
-// line. Scenarios of one Apart are ranked and judged among themselves (judge): their totals
-// cover the same legs and the same items (common practice, no published source: bids are
-// compared on the same scope). It means nothing for a row not ranked at all (Ranked: failed,
-// or infeasible in a rows file without its legs' names).
-func (r *Row) Apart() string {
+// leg, in short, for the comparison's rank and pareto cells ("1 of 4 leaving 31 legs
+// unserved", "yes (leaving 31 legs unserved)"): how many legs it leaves unserved, "leaving 1
+// leg unserved", "leaving 31 legs unserved" (the legs are named once, in compare.csv's
+// unserved_legs and below compare.md's table: UnservedSets; tester 15 F7: 31 names in every
+// rank and pareto cell made compare.md's rows screens wide), and the items its total leaves
+// out, "without " and Exclusion, joined by " and "; "" for an ok scenario pricing every line.
+// Scenarios of one rank group (group: the same legs, the same items) are ranked and judged
+// among themselves (judge): their totals cover the same legs and the same items (common
+// practice, no published source: bids are compared on the same scope). It means nothing for
+// a row not ranked at all (Ranked: failed, or infeasible in a rows file without its legs'
+// names).
+func (r *Row) Apart() string { return r.ApartIn(0) }
+
+// ApartIn is Apart with the number of the row's set of unserved legs, "leaving the 1 leg of set
+// 2 unserved", when set is not 0: the comparison numbers the sets when its
+// scenarios leave more than one (UnservedSets), so that two rank groups each leaving one leg
+// unserved, another leg each, never read alike.
+func (r *Row) ApartIn(set int) string {
 	var parts []string
 	if r.Status == StatusInfeasible && len(r.Unserved) > 0 {
-		legs := slices.Sorted(slices.Values(r.Unserved))
-		word := "leg "
-		if len(legs) > 1 {
-			word = "legs "
+		legs := output.Counted(len(r.Unserved), "leg", "legs")
+		if set > 0 {
+			legs = "the " + legs + " of set " + strconv.Itoa(set)
 		}
-		parts = append(parts, word+strings.Join(legs, ", "))
+		parts = append(parts, "leaving "+legs+" unserved")
 	}
 	if x := r.Exclusion(); x != "" && r.Status != StatusFailed {
-		parts = append(parts, x)
+		parts = append(parts, "without "+x)
 	}
 	return strings.Join(parts, " and ")
 }
 
-// group is the key of the row's rank group: Apart's legs and items, joined so that no id
-// (which may hold ", " or " and ") makes two groups one.
-func (r *Row) group() string {
-	legs := ""
-	if r.Status == StatusInfeasible {
-		legs = strings.Join(slices.Sorted(slices.Values(r.Unserved)), "\x00")
+// Total is the row's total cost as a figure to set against other rows': that of an ok
+// scenario, which serves every leg; false for a failed one and for one leaving legs unserved,
+// whose total prices the served legs only (ServedLegsTotal): sorted among complete totals it
+// came out as the cheapest alternative (tester 15 F7). compare.csv's total_cost, compare.md's
+// and compare.xlsx's total cost and the sweep report's all print it.
+func (r *Row) Total() (int64, bool) { return r.TotalCents, r.Status == StatusOK }
+
+// ServedLegsTotal is the total of a scenario leaving legs unserved, which prices its served
+// legs only (compare.csv's total_cost_served_legs_only); false for any other row, whose total
+// is Total's or none.
+func (r *Row) ServedLegsTotal() (int64, bool) { return r.TotalCents, r.Status == StatusInfeasible }
+
+// UnservedSet is a set of legs that scenarios leave unserved ("link/leg", in the leg order of
+// the first of them) and those scenarios' ids, in index order.
+type UnservedSet struct {
+	Legs, IDs []string
+	key       string // Row.legsKey of its rows
+}
+
+// UnservedSets are the sets of legs the planned rows leave unserved (Row.Unserved), each with
+// the scenarios that leave exactly it, in the order of their first scenario: the one place
+// the comparison names unserved legs beside compare.csv's own column (below compare.md's table
+// and the sweep report's), so that the rank and pareto cells only count them (Row.ApartIn,
+// with the set's number, its index here plus one, when there is more than one set).
+func UnservedSets(rows []Row) []UnservedSet {
+	var out []UnservedSet
+	at := map[string]int{}
+	for i := range rows {
+		r := &rows[i]
+		if r.Status != StatusInfeasible || len(r.Unserved) == 0 {
+			continue
+		}
+		k := r.legsKey()
+		n, seen := at[k]
+		if !seen {
+			n = len(out)
+			at[k] = n
+			out = append(out, UnservedSet{Legs: slices.Clone(r.Unserved), key: k})
+		}
+		out[n].IDs = append(out[n].IDs, r.ID)
 	}
-	return legs + "\x01" + strings.Join(slices.Sorted(slices.Values(r.NotPriced)), "\x00")
+	return out
+}
+
+// group is the key of the row's rank group: its unserved legs and the items it leaves out,
+// joined so that no id (which may hold ", " or " and ") makes two groups one.
+func (r *Row) group() string {
+	return r.legsKey() + "\x01" + strings.Join(slices.Sorted(slices.Values(r.NotPriced)), "\x00")
+}
+
+// legsKey is the key of the row's set of unserved legs: the legs sorted, joined by NUL; ""
+// for a row that is not infeasible.
+func (r *Row) legsKey() string {
+	if r.Status != StatusInfeasible {
+		return ""
+	}
+	return strings.Join(slices.Sorted(slices.Values(r.Unserved)), "\x00")
 }
 
 // RankSets is the number of sets the comparison ranks apart from one another among rows: the

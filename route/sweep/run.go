@@ -148,7 +148,7 @@ func (r *Report) Err() error {
 		if r.Infeasible == 1 {
 			verb = " has"
 		}
-		return infeasibleRows(fmt.Sprintf("%d of %s%s infeasible legs (the rows whose status is infeasible in compare.csv; each folder's links.csv gives the reasons)",
+		return infeasibleRows(fmt.Sprintf("%d of %s%s infeasible legs (the rows whose status is infeasible in compare.csv, total_cost blank and the total of the legs they serve in total_cost_served_legs_only; each folder's links.csv gives the reasons)",
 			r.Infeasible, output.Counted(r.Run, "scenario", "scenarios"), verb))
 	}
 	return nil

@@ -5,15 +5,20 @@ import (
 	"testing"
 
 	"spanwright/route/output"
+	"spanwright/route/workbook"
 )
 
 // TestJudgeRanksUnservedApart: one diverse link that no scenario can give a second route
 // (tester 10's finding 5: ADMN-LIBR/diverse, "every route uses span L-LIBR/2", in every
 // scenario) no longer leaves the whole comparison unranked: a scenario with infeasible legs is
 // ranked and Pareto-judged among those leaving the same legs unserved (and the same items
-// unpriced), never against one that serves more, and compare.md names the legs above its
-// table with how many scenarios leave each (common practice, no published source: bids are
-// compared on the same scope). A row written before the legs were named is not ranked.
+// unpriced), never against one that serves more (common practice, no published source: bids
+// are compared on the same scope). A row written before the legs were named is not ranked.
+// Its rank and pareto cells count the legs, "1 of 2 leaving the 3 legs of set 2 unserved", and the legs
+// are named once: compare.csv's unserved_legs, below compare.md's table (tester 15 F7: 31
+// names in each cell). Its total is no figure to sort with complete ones: total_cost is
+// blank, the total of its served legs in total_cost_served_legs_only (tester 15 F7: sorted by
+// total_cost, the rows leaving 31 legs unserved came out the cheapest alternatives).
 func TestJudgeRanksUnservedApart(t *testing.T) {
 	t.Parallel()
 	diverse := []string{"ADMN-LIBR/diverse"}
@@ -32,22 +37,22 @@ func TestJudgeRanksUnservedApart(t *testing.T) {
 	wantRank := []int{2, 2, 1, 1, 3, 1, 0, 0}
 	wantPareto := []bool{false, false, true, true, true, true, false, false}
 	wantRankText := []string{
-		"2 (without leg ADMN-LIBR/diverse)",
-		"2 (without legs ADMN-B14/primary, ADMN-GLS2/primary, ADMN-LIBR/diverse)",
-		"1 (without leg ADMN-LIBR/diverse)",
-		"1 (without legs ADMN-B14/primary, ADMN-GLS2/primary, ADMN-LIBR/diverse)",
-		"3 (without leg ADMN-LIBR/diverse)",
-		"1 (without leg ADMN-LIBR/diverse and maintenance_hole_entry_each)",
+		"2 of 3 leaving the 1 leg of set 1 unserved",
+		"2 of 2 leaving the 3 legs of set 2 unserved",
+		"1 of 3 leaving the 1 leg of set 1 unserved",
+		"1 of 2 leaving the 3 legs of set 2 unserved",
+		"3 of 3 leaving the 1 leg of set 1 unserved",
+		"1 of 1 leaving the 1 leg of set 1 unserved and without maintenance_hole_entry_each",
 		"", ""}
 	for i, j := range js {
-		if j.rank != wantRank[i] || j.pareto != wantPareto[i] || RankText(j.Row, j.rank) != wantRankText[i] {
-			t.Errorf("%s: rank %d %q pareto %v, want %d %q %v", j.ID, j.rank, RankText(j.Row, j.rank), j.pareto, wantRank[i], wantRankText[i], wantPareto[i])
+		if j.rank != wantRank[i] || j.pareto != wantPareto[i] || RankText(j.Row, j.rank, j.of, j.set) != wantRankText[i] {
+			t.Errorf("%s: rank %d %q pareto %v, want %d %q %v", j.ID, j.rank, RankText(j.Row, j.rank, j.of, j.set), j.pareto, wantRank[i], wantRankText[i], wantPareto[i])
 		}
 	}
-	if got := ParetoText(&rows[4], true); got != "yes (without leg ADMN-LIBR/diverse)" {
+	if got := ParetoText(&rows[4], true, 0); got != "yes (leaving 1 leg unserved)" {
 		t.Errorf("pareto cell %q", got)
 	}
-	if got := ParetoText(&rows[6], false); got != "" {
+	if got := ParetoText(&rows[6], false, 0); got != "" {
 		t.Errorf("a row without its legs' names is not judged: pareto cell %q", got)
 	}
 	files, err := Compare(rows, nil, "")
@@ -59,8 +64,11 @@ func TestJudgeRanksUnservedApart(t *testing.T) {
 		switch f.Name {
 		case CompareCSV:
 			for _, want := range []string{
-				`,1 (without leg ADMN-LIBR/diverse),yes (without leg ADMN-LIBR/diverse),`,
-				`"2 (without legs ADMN-B14/primary, ADMN-GLS2/primary, ADMN-LIBR/diverse)","no (without legs ADMN-B14/primary, ADMN-GLS2/primary, ADMN-LIBR/diverse)"`,
+				`,1 of 3 leaving the 1 leg of set 1 unserved,yes (leaving the 1 leg of set 1 unserved),`,
+				`,2 of 2 leaving the 3 legs of set 2 unserved,no (leaving the 3 legs of set 2 unserved),`,
+				// No total_cost, the served legs' total and the legs at the end of the row.
+				"\n1,book-a-no-trench,,infeasible,,,,,3,",
+				",428614.05,ADMN-LIBR/diverse; ADMN-GLS2/primary; ADMN-B14/primary\n",
 			} {
 				if !strings.Contains(text, want) {
 					t.Errorf("compare.csv lacks %q:\n%s", want, text)
@@ -71,19 +79,51 @@ func TestJudgeRanksUnservedApart(t *testing.T) {
 			head, _, _ := strings.Cut(text, "\n")
 			if head != "index,id,case,status,currency,total_cost,plan_budget,over_budget,infeasible_legs,worst_margin_db,new_trench_m,diverse_links,diverse_single_point,diverse_missing,media_mix,cost_rank,pareto,warnings,error,note,objective,lower_bound,gap_pct"+
 				",started_from,handholes_to_build,cost_material,cost_labour,cost_construction,cost_optics,cost_bid_items,contingency,overhead,tax,safety,budget_feasible_legs_only"+
-				",new_construction_trench_m,new_construction_bore_m,new_construction_aerial_m,new_construction_tray_m,new_construction_tunnel_m" {
+				",new_construction_trench_m,new_construction_bore_m,new_construction_aerial_m,new_construction_tray_m,new_construction_tunnel_m"+
+				",total_cost_served_legs_only,unserved_legs" {
 				t.Errorf("compare.csv header changed: %s", head)
 			}
 		case CompareMD:
 			for _, want := range []string{
 				"6 scenarios with infeasible legs ranked apart: each is ranked and Pareto-judged among those leaving the same legs unserved",
 				"1 scenario with infeasible legs not ranked: its row does not name the legs",
-				"Legs left unserved, with the scenarios that leave them: `ADMN-LIBR/diverse` (6 of 7), `ADMN-B14/primary` (2 of 7), `ADMN-GLS2/primary` (2 of 7).",
-				"Pareto optimal among scenarios without leg ADMN-LIBR/diverse: `book-b`, `all-40g`.",
+				"3 legs left unserved by some of the scenarios, named below the table (Legs left unserved)",
+				"Pareto optimal among scenarios leaving the 1 leg of set 1 unserved: `book-b`, `all-40g`.",
+				"| 1 | `book-a-no-trench` |  | infeasible |  | 428614.05 |  |  | 3 |",
+				"| 2 of 2 leaving the 3 legs of set 2 unserved | no (leaving the 3 legs of set 2 unserved) |",
+				"## Legs left unserved\n\n- set 1: `book-a`, `book-b`, `all-40g`, `book-c`: 1 leg: `ADMN-LIBR/diverse`\n" +
+					"- set 2: `book-a-no-trench`, `book-b-no-trench`: 3 legs: `ADMN-LIBR/diverse`, `ADMN-GLS2/primary`, `ADMN-B14/primary`\n",
 			} {
 				if !strings.Contains(text, want) {
 					t.Errorf("compare.md lacks %q:\n%s", want, text)
 				}
+			}
+		}
+	}
+	// compare.xlsx: the same cells, the served legs' total a number.
+	for _, f := range files {
+		if f.Name != CompareXLSX {
+			continue
+		}
+		x, err := workbook.Open(f.Data)
+		if err != nil {
+			t.Fatal(err)
+		}
+		xr, err := x.Rows("scenarios")
+		x.Close()
+		if err != nil {
+			t.Fatal(err)
+		}
+		cell := map[string]string{}
+		for c, h := range xr[0] {
+			if c < len(xr[2]) {
+				cell[h] = xr[2][c] // book-a-no-trench
+			}
+		}
+		for h, want := range map[string]string{"total cost": "", "total cost of the served legs only": "428614.05",
+			"rank by cost": "2 of 2 leaving the 3 legs of set 2 unserved", "legs left unserved": "ADMN-LIBR/diverse; ADMN-GLS2/primary; ADMN-B14/primary"} {
+			if cell[h] != want {
+				t.Errorf("compare.xlsx %s: %q, want %q (header %q)", h, cell[h], want, xr[0])
 			}
 		}
 	}
@@ -113,8 +153,8 @@ func TestJudgeRanksUnservedApart(t *testing.T) {
 func TestRowKeepsUnserved(t *testing.T) {
 	var r Row
 	r.fill(output.Summary{Infeasible: 1, InfeasibleNames: []string{"ADMN-LIBR/diverse"}})
-	if r.Status != StatusInfeasible || !r.Ranked() || !r.RankedApart() || r.Apart() != "leg ADMN-LIBR/diverse" {
-		t.Errorf("row %+v: want infeasible, ranked apart without leg ADMN-LIBR/diverse (Apart %q)", r, r.Apart())
+	if r.Status != StatusInfeasible || !r.Ranked() || !r.RankedApart() || r.Apart() != "leaving 1 leg unserved" {
+		t.Errorf("row %+v: want infeasible, ranked apart leaving 1 leg unserved (Apart %q)", r, r.Apart())
 	}
 	r.fill(output.Summary{})
 	if len(r.Unserved) != 0 || r.RankedApart() || !r.Ranked() {
