@@ -619,6 +619,7 @@ func (b *builder) joinEntrances() {
 func (b *builder) nearest(xy vec, r float64) (seg int, t, d float64, miss poleMiss, ok bool) {
 	lo, hi := around(xy, r)
 	b.buf = b.segGrid.query(lo, hi, b.buf)
+	b.noTaps(func(a, c vec) float64 { _, d2 := closestOnSeg(xy, a, c); return math.Sqrt(d2) })
 	best := place{seg: -1}
 	aerial := b.aerialBuf[:0]
 	for _, s := range b.buf {
@@ -645,6 +646,29 @@ func (b *builder) nearest(xy vec, r float64) (seg int, t, d float64, miss poleMi
 		return 0, 0, 0, miss, false
 	}
 	return best.seg, best.t, best.d, miss, true
+}
+
+// noTaps drops from b.buf the segments of pathways nothing may be built on (method none: a
+// conduit on a bridge, a casing under a railway): a counted lateral never taps one, as no
+// duct is added beside it. It returns the nearest such pathway by dist and how far it is,
+// for the problem that says why a building has no way in ("" when none was dropped).
+func (b *builder) noTaps(dist func(a, c vec) float64) (string, float64) {
+	held, heldM := "", math.Inf(1)
+	kept := b.buf[:0]
+	for _, s := range b.buf {
+		sr := b.segs[s]
+		p := &b.parts[sr.part]
+		pw := &b.c.Pathways[p.pw]
+		if pw.Method != MethodNone {
+			kept = append(kept, s)
+			continue
+		}
+		if d := dist(p.xy[sr.i], p.xy[sr.i+1]); d < heldM || (d == heldM && pw.ID < held) {
+			held, heldM = pw.ID, d
+		}
+	}
+	b.buf = kept
+	return held, heldM
 }
 
 // place is a point on a pathway segment at distance d (projected metres) from something.
@@ -790,9 +814,14 @@ func (b *builder) planAccess() {
 		}
 		lo, hi := f.lo.sub(vec{b.maxLat, b.maxLat}), f.hi.add(vec{b.maxLat, b.maxLat})
 		b.buf = b.segGrid.query(lo, hi, b.buf)
+		held, heldM := b.noTaps(func(a, c vec) float64 { d, _ := f.segDist(a, c); return d })
 		best, miss := b.lateralPlace(f, "")
 		if best.seg < 0 || best.d > b.maxLat {
-			b.unjoin(bi, "no pathway within %s m of the footprint (design: max_lateral_m)%s", fmtM(b.maxLat), b.within(miss, b.maxLat))
+			also := ""
+			if held != "" && heldM <= b.maxLat {
+				also = fmt.Sprintf("; pathway %s passes %.1f m away, but its method is %q: nothing may be built on it, a lateral's tap included", held, heldM, MethodNone)
+			}
+			b.unjoin(bi, "no pathway within %s m of the footprint (design: max_lateral_m)%s%s", fmtM(b.maxLat), b.within(miss, b.maxLat), also)
 			continue
 		}
 		b.plans[bi] = accessPlan{via: ViaLateral, target: -1}
@@ -842,16 +871,18 @@ func (b *builder) lateralDoors(bi int, f *footprint, nearest place) {
 			continue
 		}
 		places = append(places, pl)
-		// Every other pole of the run about as near (lateralTieM) is a way in too: of two
-		// poles equally far from the building, the one the lateral came down would follow the
-		// line's drawing direction or a millimetre (tester 15 F1: 50 m of route on one link).
+		// Every other pole of the run within reach is a way in too, as every run is: of two
+		// poles about as far from the building, the one the lateral came down would follow the
+		// line's drawing direction or a millimetre (tester 15 F1: 50 m of route on one link),
+		// and with a margin over the nearest the same jump would come at the margin's edge
+		// (review 21 F5). The optimizer chooses among them by cost.
 		at := []vec{xy(pl)}
 		for _, s := range byRun[r] {
 			if b.c.Pathways[b.parts[b.segs[s].part].pw].Type != TypeAerial {
 				continue
 			}
 			b.polesOf(s, func(c place, p vec) {
-				if c.d = f.distTo(p); c.d <= min(pl.d+lateralTieM, b.maxLat) && !slices.Contains(at, p) {
+				if c.d = f.distTo(p); c.d <= b.maxLat && !slices.Contains(at, p) {
 					at = append(at, p)
 					places = append(places, c)
 				}

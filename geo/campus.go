@@ -134,7 +134,7 @@ type Pathway struct {
 	DuctMM     float64
 	EMI        string // EMINone, EMILow, EMIHigh
 	Surface    string // turf, asphalt, concrete or "": the ground where new trench is dug along it (plan.Design.AssumedSurface when "")
-	Method     string // MethodTrench or MethodBore: how new work along it is built
+	Method     string // MethodTrench or MethodBore: how new work along it is built; MethodNone: none may be
 	MethodSet  bool   // the campus gives the method; otherwise a plan may choose the cheaper
 	Plenum     bool   // a tray in a plenum (an air-handling space): cable there must be plenum rated
 	Group      string // shared-risk group; the pathway's own ID when absent

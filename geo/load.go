@@ -1006,6 +1006,12 @@ func (f *feature) pathway(g orb.Geometry, ok bool) {
 	emi, _ := f.enum(PropEMI, emis, EMINone)
 	surface, _ := f.enum(PropSurface, surfaces, "")
 	method, methodFixed := f.enum(PropMethod, methods, MethodTrench)
+	if method == MethodNone && status == StatusExisting && typ != TypeDuct {
+		// What none forbids is ducts added beside full ones and taps cut into the run.
+		f.add(PropMethod, problemf(ErrBadValue, "want %q only on a pathway of type %q, whose full ducts it keeps from getting more beside them; this one is %q",
+			MethodNone, TypeDuct, typ))
+		method, methodFixed = MethodTrench, false
+	}
 	if method == MethodNone && status == StatusProposed {
 		// New construction is built some way: none is for a pathway already there.
 		f.add(PropMethod, problemf(ErrBadValue, "want %q or %q on a proposed pathway (status %q), got %q, which is for an existing pathway nothing may be built beside",

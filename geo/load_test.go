@@ -40,6 +40,7 @@ func TestParseBad(t *testing.T) {
 		{"plenum_on_duct.geojson", `plenum_on_duct.geojson: feature #2 "P-2": property "plenum": want true or false (or 1 or 0), got string "yes"; write true or false without quotes`, ErrWrongType, false},
 		{"unknown_method.geojson", `unknown_method.geojson: feature #1 "P-1": property "method": want one of "trench", "bore", "none", got string "tunnel-boring"`, ErrBadValue, false},
 		// Tester 15 F12: none is for an existing pathway nothing may be built beside.
+		{"aerial_method_none.geojson", `aerial_method_none.geojson: feature #1 "P-1": property "method": want "none" only on a pathway of type "duct", whose full ducts it keeps from getting more beside them; this one is "aerial"`, ErrBadValue, false},
 		{"proposed_method_none.geojson", `proposed_method_none.geojson: feature #1 "P-1": property "method": want "trench" or "bore" on a proposed pathway (status "proposed"), got "none", which is for an existing pathway nothing may be built beside`, ErrBadValue, false},
 		{"unknown_surface.geojson", `unknown_surface.geojson: feature #1 "P-1": property "surface": want one of "turf", "asphalt", "concrete", got string "gravel"`, ErrBadValue, false},
 		{"unknown_role.geojson", `unknown_role.geojson: feature #0 "B-1": property "role": want one of "mc", "ic", got string "hub"`, ErrBadValue, false},

@@ -51,7 +51,7 @@ type Span struct {
 	Status     string
 	EMI        string
 	Surface    string
-	Method     string // MethodTrench or MethodBore, for new work along the span
+	Method     string // MethodTrench or MethodBore, for new work along the span; MethodNone: none may be
 	MethodSet  bool   // the campus gives the method (Pathway.MethodSet)
 	Plenum     bool   // the span runs in a plenum (tray pathways only)
 	Group      string

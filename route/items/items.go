@@ -194,12 +194,13 @@ func NewBuriedM(sp *geo.Span) float64 {
 // else the campus's method when it gives one; otherwise, when the price book prices both,
 // the cheaper per metre of trench with the restoration of the span's surface and directional
 // bore (trench on a tie); otherwise trench. The optimizer's problem and the bill both ask
-// here, so they build the same way.
+// here, so they build the same way. A span where nothing may be built (geo.MethodNone) gets
+// no new work from either; asked of one, MethodOf answers as for a span without a method.
 func MethodOf(p *media.PriceBook, d plan.Design, sp *geo.Span) string {
 	if !Dug(sp.Type) {
 		return sp.Type
 	}
-	if sp.MethodSet {
+	if sp.MethodSet && sp.Method != geo.MethodNone {
 		return sp.Method
 	}
 	perM := func(qs ...media.Quantity) (float64, bool) {
