@@ -10,14 +10,15 @@ import (
 // Conduit trade sizes run from 16 (½ in) to 155 (6 in) for the raceways NFPA 70 Chapter 9
 // Table 4 lists, the sizes ANSI/TIA-569 gives pathways in (from memory); a campus backbone duct is usually 103
 // (4 in). The inside diameters of the two ends, in millimetres: EMT ½ in is 0.622 in inside,
-// rigid PVC Schedule 40 6 in is 6.065 in (NFPA 70 Chapter 9 Table 4, from memory).
+// rigid PVC Schedule 40 6 in is 6.031 in (NFPA 70 Chapter 9 Table 4, seen in a secondary
+// transcription; PVCConduits).
 const (
 	// SmallestDuctMM is the inside diameter of the smallest conduit trade size, 16 (½ in)
 	// EMT, in millimetres: a duct_mm below it is warned of (smallDuctWarnings).
 	SmallestDuctMM = 15.8
-	// LargestTradeDuctMM is the inside diameter of the largest, 155 (6 in) PVC Schedule 40,
-	// in millimetres, for the message.
-	LargestTradeDuctMM = 154.1
+	// LargestTradeDuctMM is the inside diameter of the largest, 155 (6 in) PVC Schedule 40
+	// (PVCConduits), in millimetres, for the message.
+	LargestTradeDuctMM = 153.2
 	// largestTradeIn is the largest trade size in inches: a duct_mm up to it may be inches.
 	largestTradeIn = 6
 )

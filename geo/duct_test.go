@@ -40,8 +40,8 @@ func TestReadingNits(t *testing.T) {
 		got = append(got, w.src.Short(w.id)+": "+w.msg)
 	}
 	want := []string{
-		`#0 (P-1): "duct_mm" is 4 mm, smaller than the inside of any conduit trade size: they run from trade size 16 (½ in, 15.8 mm inside) to 155 (6 in, 154.1 mm inside); inches? 4 in is 101.6 mm; a microduct`,
-		`#1 (P-2): "duct_mm" is 10 mm, smaller than the inside of any conduit trade size: they run from trade size 16 (½ in, 15.8 mm inside) to 155 (6 in, 154.1 mm inside); centimetres? 10 cm is 100 mm;`,
+		`#0 (P-1): "duct_mm" is 4 mm, smaller than the inside of any conduit trade size: they run from trade size 16 (½ in, 15.8 mm inside) to 155 (6 in, 153.2 mm inside); inches? 4 in is 101.6 mm; a microduct`,
+		`#1 (P-2): "duct_mm" is 10 mm, smaller than the inside of any conduit trade size: they run from trade size 16 (½ in, 15.8 mm inside) to 155 (6 in, 153.2 mm inside); centimetres? 10 cm is 100 mm;`,
 		`#4 (B-1): 2 buildings of this file give "riser_m" as null, taken as absent: a riser of 15 m; give the value`,
 		`#6 (B-3): this feature gives "riser_m" as an empty string, taken as absent: a riser of 15 m;`,
 	}
@@ -209,5 +209,13 @@ func TestPVCConduits(t *testing.T) {
 		if (tc.want == "") != (got == "") || !strings.Contains(got, tc.want) {
 			t.Errorf("NominalHint(%g): %q, want it to contain %q", tc.ductMM, got, tc.want)
 		}
+	}
+}
+
+// TestTradeEnds: the ends of the trade sizes the unit-slip warning names are the table's.
+func TestTradeEnds(t *testing.T) {
+	t.Parallel()
+	if last := PVCConduits[len(PVCConduits)-1]; last.Trade != 155 || LargestTradeDuctMM != last.Sched40MM {
+		t.Errorf("LargestTradeDuctMM %g, want trade size 155 Schedule 40 %g", LargestTradeDuctMM, last.Sched40MM)
 	}
 }
