@@ -72,10 +72,11 @@ func jamWarnings(fill []DuctFill, innerduct bool, cablesPerDuct int) []string {
 			if takes == would {
 				continue // the count of pulls or the fill decides, not the jam band
 			}
-			verdict := "in the jam band 2.8–3.2 (NFPA 70 Chapter 9 Table 1 Informational Note No. 2)"
+			verdict := "in"
 			if !in {
-				verdict = "outside the jam band 2.8–3.2 (NFPA 70 Chapter 9 Table 1 Informational Note No. 2)"
+				verdict = "outside"
 			}
+			verdict += fmt.Sprintf(" the jam band %g–%g (NFPA 70 Chapter 9 Table 1 Informational Note No. 2)", install.JamRatioLowest, install.JamRatioHighest)
 			var other string
 			switch {
 			case in && edge > d:
@@ -87,10 +88,9 @@ func jamWarnings(fill []DuctFill, innerduct bool, cablesPerDuct int) []string {
 			default:
 				other = "of " + mm2(edge) + " or narrower"
 			}
-			ss := slices.Sorted(slices.Values(trios[od]))
-			on = append(on, ss...)
-			parts = append(parts, fmt.Sprintf("three %g mm %s give 1.05·D/d = %.2f, %s, so a duct takes %d of them; a duct %s inside, %s away, would take %d",
-				od, what, ratio, verdict, takes, other, mm2(math.Abs(edge-d)), would))
+			on = append(on, trios[od]...)
+			parts = append(parts, fmt.Sprintf("three %g mm %s give %g·D/d = %.2f, %s, so a duct takes %d of them; a duct %s inside, %s away, would take %d",
+				od, what, install.JamBendFactor, ratio, verdict, takes, other, mm2(math.Abs(edge-d)), would))
 		}
 		if len(parts) == 0 {
 			continue
