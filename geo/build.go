@@ -2309,9 +2309,13 @@ func (b *builder) warnings() []Warning {
 		}
 		return x.src.compare(y.src) < 0
 	})
+	slip := map[warnRec]bool{}
+	for _, w := range b.c.slips {
+		slip[w] = true
+	}
 	var out []Warning
 	for _, w := range b.warns {
-		out = append(out, Warning{File: w.src.File, Feature: w.src.Short(w.id), Message: w.msg})
+		out = append(out, Warning{File: w.src.File, Feature: w.src.Short(w.id), Message: w.msg, UnitSlip: slip[w]})
 	}
 	return out
 }

@@ -64,9 +64,6 @@ const (
 // used when a building has no riser_m.
 const DefaultRiserM = 15.0
 
-// DefaultDuctMM is a pathway's inner duct diameter in millimetres when duct_mm is absent.
-const DefaultDuctMM = 100.0
-
 // Source locates a feature in the input: the file name (for a database, its connection
 // string without the password) and either the 0-based index of the feature in that file's
 // FeatureCollection or, for a feature read from a table (a GeoPackage's, a database's), the
@@ -171,4 +168,7 @@ type Campus struct {
 	// differs from its id property, two footprints that overlap); Build gives them among
 	// the Network's Warnings.
 	warns []warnRec
+	// slips are those of warns on a number that reads as typed in another unit
+	// (unitSlipWarnings): Warning.UnitSlip.
+	slips []warnRec
 }

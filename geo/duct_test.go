@@ -40,8 +40,8 @@ func TestReadingNits(t *testing.T) {
 		got = append(got, w.src.Short(w.id)+": "+w.msg)
 	}
 	want := []string{
-		`#0 (P-1): "duct_mm" is 4 mm, smaller than the inside of any conduit trade size: they run from trade size 16 (½ in, 15.8 mm inside) to 155 (6 in, 154.1 mm inside); inches? 4 in is 101.6 mm; a microduct`,
-		`#1 (P-2): "duct_mm" is 10 mm, smaller than the inside of any conduit trade size: they run from trade size 16 (½ in, 15.8 mm inside) to 155 (6 in, 154.1 mm inside); centimetres? 10 cm is 100 mm;`,
+		`#0 (P-1): "duct_mm" is 4 mm, smaller than the inside of any conduit trade size: they run from trade size 16 (½ in, 15.8 mm inside) to 155 (6 in, 153.2 mm inside); inches? 4 in is 101.6 mm; a microduct`,
+		`#1 (P-2): "duct_mm" is 10 mm, smaller than the inside of any conduit trade size: they run from trade size 16 (½ in, 15.8 mm inside) to 155 (6 in, 153.2 mm inside); centimetres? 10 cm is 100 mm;`,
 		`#4 (B-1): 2 buildings of this file give "riser_m" as null, taken as absent: a riser of 15 m; give the value`,
 		`#6 (B-3): this feature gives "riser_m" as an empty string, taken as absent: a riser of 15 m;`,
 	}
@@ -117,5 +117,105 @@ func TestTallRiser(t *testing.T) {
 	}
 	if len(c.warns) != 1 || !strings.Contains(c.warns[0].msg, `"riser_m" is 450 m (4 more buildings of this file give more than 300 m too)`) {
 		t.Errorf("got %+v, want one warning for the file", c.warns)
+	}
+}
+
+// TestUnitSlipMarked (tester 15 F4): the warnings on a number that reads as typed in another
+// unit, and only those, are marked so (Warning.UnitSlip) through Build, so that a plan's
+// terminal can print them in full: a duct_mm of 4 (inches typed as millimetres: 4 in is
+// 101.6 mm, 1 in = 25.4 mm exactly, NIST SP 811 B.8) and a riser_m of 750 (centimetres), not
+// a blank riser_m nor two pathways crossing with no shared vertex.
+func TestUnitSlipMarked(t *testing.T) {
+	t.Parallel()
+	fs := []string{
+		`{"type":"Feature","properties":{"kind":"pathway","id":"P-1","duct_mm":4},"geometry":{"type":"LineString","coordinates":[[10,50],[10.002,50]]}}`,
+		`{"type":"Feature","properties":{"kind":"pathway","id":"P-2"},"geometry":{"type":"LineString","coordinates":[[10.001,49.999],[10.001,50.001]]}}`,
+		`{"type":"Feature","properties":{"kind":"building","id":"B-1","riser_m":750},"geometry":{"type":"Polygon","coordinates":[[[10.0021,49.9999],[10.0025,49.9999],[10.0025,50.0001],[10.0021,50.0001],[10.0021,49.9999]]]}}`,
+		`{"type":"Feature","properties":{"kind":"building","id":"B-2","riser_m":""},"geometry":{"type":"Polygon","coordinates":[[[10.0031,49.9999],[10.0035,49.9999],[10.0035,50.0001],[10.0031,50.0001],[10.0031,49.9999]]]}}`,
+	}
+	c, err := Parse("c.geojson", []byte(`{"type":"FeatureCollection","features":[`+strings.Join(fs, ",")+`]}`))
+	if err != nil {
+		t.Fatal(err)
+	}
+	n, err := Build(c, Options{SnapM: 0.5, MaxLateralM: 30})
+	if err != nil {
+		t.Fatal(err)
+	}
+	slips, others := 0, 0
+	for _, w := range n.Warnings {
+		slip := strings.Contains(w.Message, `"duct_mm" is 4 mm`) || strings.Contains(w.Message, `"riser_m" is 750 m`)
+		if w.UnitSlip != slip {
+			t.Errorf("%s: %s: UnitSlip %v, want %v", w.Feature, w.Message, w.UnitSlip, slip)
+		}
+		if slip {
+			slips++
+		} else {
+			others++
+		}
+	}
+	if slips != 2 || others == 0 {
+		t.Errorf("%d unit slips and %d other warnings, want 2 and some: %+v", slips, others, n.Warnings)
+	}
+}
+
+// TestPVCConduits checks the table of rigid PVC conduit against NFPA 70 Chapter 9 Table 4
+// (Article 352; seen in a secondary transcription of the table, not in the standard itself):
+// π/4·d² of each inside diameter gives the table's total area (100 %) to its rounding, here
+// for trade sizes 53 (2 in: 3.291 and 2.874 in²) and 103 (4 in: 12.554 and 11.258 in²); every
+// Schedule 80 is narrower than its Schedule 40; the default duct_mm is trade size 103
+// Schedule 40. NominalHint names the trade size a round nominal figure may mean.
+func TestPVCConduits(t *testing.T) {
+	t.Parallel()
+	in2 := func(mm float64) float64 { d := mm / 25.4; return 3.141592653589793 / 4 * d * d } // 1 in = 25.4 mm (NIST SP 811 B.8)
+	byTrade := map[int]Conduit{}
+	for i, c := range PVCConduits {
+		byTrade[c.Trade] = c
+		if c.Sched80MM >= c.Sched40MM {
+			t.Errorf("trade size %d: Schedule 80 %g mm, not narrower than Schedule 40 %g mm", c.Trade, c.Sched80MM, c.Sched40MM)
+		}
+		if i > 0 && c.Sched40MM <= PVCConduits[i-1].Sched40MM {
+			t.Errorf("trade size %d out of order", c.Trade)
+		}
+	}
+	for _, tc := range []struct {
+		trade          int
+		area40, area80 float64 // in², NFPA 70 Chapter 9 Table 4 (seen, secondary transcription)
+	}{{53, 3.291, 2.874}, {103, 12.554, 11.258}} {
+		c := byTrade[tc.trade]
+		// The table's diameters are given to 0.001 in, ours to 0.1 mm: within 0.5 % of area.
+		for _, x := range []struct{ got, want float64 }{{in2(c.Sched40MM), tc.area40}, {in2(c.Sched80MM), tc.area80}} {
+			if d := x.got/x.want - 1; d > 0.005 || d < -0.005 {
+				t.Errorf("trade size %d: area %.3f in², want %.3f", tc.trade, x.got, x.want)
+			}
+		}
+	}
+	if DefaultDuctMM != byTrade[103].Sched40MM {
+		t.Errorf("DefaultDuctMM %g, want trade size 103 Schedule 40 %g", DefaultDuctMM, byTrade[103].Sched40MM)
+	}
+	for _, tc := range []struct {
+		ductMM float64
+		want   string // a part of the hint, "" for none
+	}{
+		{100, "trade size 103 (4 in) PVC conduit is 101.5 mm inside in Schedule 40, 96.2 mm in Schedule 80"},
+		{103, "trade size 103 (4 in)"}, // the trade size's designator given as its diameter
+		{50, "trade size 53 (2 in) PVC conduit is 52.0 mm inside"},
+		{150, "trade size 155 (6 in)"},
+		{101.5, ""}, // an inside diameter of the table
+		{96.2, ""},
+		{100.5, ""}, // not a round figure
+		{10, ""},    // no trade size within 5 %
+	} {
+		got := NominalHint(tc.ductMM, 5)
+		if (tc.want == "") != (got == "") || !strings.Contains(got, tc.want) {
+			t.Errorf("NominalHint(%g): %q, want it to contain %q", tc.ductMM, got, tc.want)
+		}
+	}
+}
+
+// TestTradeEnds: the ends of the trade sizes the unit-slip warning names are the table's.
+func TestTradeEnds(t *testing.T) {
+	t.Parallel()
+	if last := PVCConduits[len(PVCConduits)-1]; last.Trade != 155 || LargestTradeDuctMM != last.Sched40MM {
+		t.Errorf("LargestTradeDuctMM %g, want trade size 155 Schedule 40 %g", LargestTradeDuctMM, last.Sched40MM)
 	}
 }

@@ -281,6 +281,7 @@ type loader struct {
 	c     Campus
 	errs  input.Problems
 	warns []warnRec // what reading found that is no problem (Campus.warns)
+	slips []warnRec // those of warns on a unit slip (Campus.slips)
 	ids   map[string]idUse
 	// idDiffers are the features whose id member differs from their id property, in the
 	// order read (idWarnings).
@@ -435,6 +436,7 @@ func (l *loader) finish() (*Campus, error) {
 	l.groupWarnings()
 	l.blankWarnings()
 	c.warns = append(slices.Clone(l.warns), sameFootprints(c.Buildings)...)
+	c.slips = slices.Clone(l.slips)
 	return &c, nil
 }
 

@@ -129,6 +129,10 @@ type Warning struct {
 	File    string
 	Feature string // "#index (id)" of the feature concerned, or "table name fid n (id)" (Source.Short)
 	Message string
+	// UnitSlip marks a number that reads as typed in another unit (a duct_mm below any
+	// conduit's inside, a riser_m above any building's): the plan is made with it as given, so
+	// a plan's terminal prints it in full (route.Result.Shown).
+	UnitSlip bool
 }
 
 // Network is the noded pathway network: junctions and spans sorted by ID, one Access per

@@ -29,6 +29,15 @@ type Result struct {
 	Notes    []string
 	Legs     []routing.Leg // the legs of every link in link order; each points into Links
 	Warnings []string
+	// Shown are the warnings, among Warnings, that the plan's terminal prints in full, the
+	// others being counted there: those that say a number the plan is made with may be wrong
+	// by a unit or a few per cent, which can turn what the plan serves and how many cables a
+	// duct takes (tester 15 F4): the campus's unit slips (geo.Warning.UnitSlip, as check
+	// prints them) and the duct sizes whose jam verdict turns on their inside diameter
+	// (estimate.Estimate.JamWarnings). They speak of the campus's own figures in the units of
+	// its keys ("duct_mm" is 4 mm; 100 mm reads as a nominal size), so every output gives them
+	// as written, in either units.
+	Shown []string
 
 	Currency string // the price book's ISO currency code
 	// ExtraCents is plan-level cost not carried by any leg (for example markups); the
@@ -187,6 +196,9 @@ func SolveFrom(ctx context.Context, s *site.Site, p *plan.Plan, eng *media.Engin
 	r.ProblemSHA256 = rt.ProblemSHA256
 	for _, w := range s.Net.Warnings {
 		r.Warnings = append(r.Warnings, w.File+": "+w.Feature+": "+w.Message)
+		if w.UnitSlip {
+			r.Shown = append(r.Shown, r.Warnings[len(r.Warnings)-1])
+		}
 	}
 	r.Warnings = append(r.Warnings, pr.warnings...)
 	r.Warnings = append(r.Warnings, rt.Warnings...)
@@ -199,6 +211,7 @@ func SolveFrom(ctx context.Context, s *site.Site, p *plan.Plan, eng *media.Engin
 	r.Estimate = e
 	r.Cautions = cautionsOf(r)
 	r.Warnings = append(r.Warnings, e.Warnings...)
+	r.Shown = append(r.Shown, e.JamWarnings...)
 	if e.BudgetWarning != "" {
 		r.Warnings = append(r.Warnings, e.BudgetWarning)
 	}

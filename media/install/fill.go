@@ -112,6 +112,34 @@ func Jam(ductIDMM, a, b, c float64) (ratio float64, risk bool) {
 	return ratio, ratio >= JamRatioLowest && ratio <= JamRatioHighest
 }
 
+// JamTolerancePct is how near, in per cent of a duct's inside diameter, another diameter may
+// be and still be taken for the same duct when a jam verdict is checked for a flip (JamEdge):
+// the inside diameters of rigid PVC conduit of one trade size differ by 4.9 to 6.0 % between
+// Schedule 40 and Schedule 80 from trade size 78 to 155 (NFPA 70 Chapter 9 Table 4, seen in a
+// secondary transcription), and a duct_mm that names the size but not the wall, or a round
+// nominal such as 100, is uncertain by that much; it is also the size of JamBendFactor's
+// allowance itself. A modelling choice.
+const JamTolerancePct = 5.0
+
+// JamEdge is the inside diameter, in mm, nearest ductIDMM and within tolPct per cent of it, at
+// which three cables of outside diameter odMM would get the other jam verdict than in a duct
+// of ductIDMM (the 1.05·D/d of an edge of the band, JamRatioLowest or JamRatioHighest), and
+// whether there is one. A duct of the edge's diameter itself is in the band (inclusive): the
+// other verdict lies just beyond the edge, seen from ductIDMM. It is 0, false for invalid input.
+func JamEdge(ductIDMM, odMM, tolPct float64) (edgeMM float64, ok bool) {
+	if !finite(ductIDMM) || ductIDMM <= 0 || !finite(odMM) || odMM <= 0 || !finite(tolPct) || tolPct < 0 {
+		return 0, false
+	}
+	best := math.Inf(1)
+	for _, ratio := range []float64{JamRatioLowest, JamRatioHighest} {
+		at := ratio * odMM / JamBendFactor
+		if d := math.Abs(at - ductIDMM); d <= tolPct/100*ductIDMM && d < best {
+			edgeMM, best, ok = at, d, true
+		}
+	}
+	return edgeMM, ok
+}
+
 // Load is what one duct holds as cables are pulled into it one at a time: how many, their
 // areas summed in pull order (as CheckFill sums them), and the first two cables' outside
 // diameters, which the jam check of a third needs. The zero Load is an empty duct.

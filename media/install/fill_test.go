@@ -414,3 +414,50 @@ func TestCrowded(t *testing.T) {
 		}
 	}
 }
+
+// TestJamEdge: where the jam verdict of three equal cables turns, near a duct's inside
+// diameter. The band is 1.05·D/d from 2.8 to 3.2 (NFPA 70 Chapter 9 Table 1 Informational Note
+// No. 2, seen; the 1.05 common practice, no published source), so for 33 mm innerducts (the
+// README's 1-inch SDR 11, from memory) it ends at 3.2 × 33 / 1.05 = 100.571 mm and starts at
+// 2.8 × 33 / 1.05 = 88 mm (computed). Inside diameters of trade size 103 (4 in): PVC
+// Schedule 40 101.5 mm, Schedule 80 96.2 mm, rigid metal conduit 102.9 mm, EMT 110.1 mm
+// (NFPA 70 Chapter 9 Table 4, seen in a secondary transcription).
+func TestJamEdge(t *testing.T) {
+	t.Parallel()
+	const od = 33.0
+	upper, lower := 3.2*od/1.05, 2.8*od/1.05
+	for _, tc := range []struct {
+		name   string
+		ductMM float64
+		edge   float64 // 0: none within 5 %
+	}{
+		{"nominal 100 mm, in the band", 100, upper},
+		{"Schedule 40, just above the band", 101.5, upper},
+		{"Schedule 80, in the band 4.3 % from its end", 96.2, upper},
+		{"rigid metal conduit", 102.9, upper},
+		{"EMT, 9.5 % above the band", 110.1, 0},
+		{"mid-band", 94, 0}, // 3.0: 6.5 % from either end
+		{"just below the band", 86, lower},
+	} {
+		edge, ok := JamEdge(tc.ductMM, od, JamTolerancePct)
+		if ok != (tc.edge != 0) || math.Abs(edge-tc.edge) > 1e-9 {
+			t.Errorf("%s: JamEdge(%g) = %g, %v; want %g", tc.name, tc.ductMM, edge, ok, tc.edge)
+		}
+		// Just beyond the edge from the duct, the verdict is the other one.
+		if ok {
+			_, here := Jam(tc.ductMM, od, od, od)
+			across := edge * (1 + 1e-9)
+			if edge < tc.ductMM {
+				across = edge * (1 - 1e-9)
+			}
+			if _, there := Jam(across, od, od, od); there == here {
+				t.Errorf("%s: the verdict at %g is the same as at %g", tc.name, across, tc.ductMM)
+			}
+		}
+	}
+	for _, bad := range [][3]float64{{0, od, 5}, {100, -1, 5}, {100, od, math.NaN()}} {
+		if _, ok := JamEdge(bad[0], bad[1], bad[2]); ok {
+			t.Errorf("JamEdge%v: ok for invalid input", bad)
+		}
+	}
+}

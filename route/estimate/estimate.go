@@ -60,6 +60,9 @@ type Estimate struct {
 	BOM           *media.BOM
 	Warnings      []string // pulls over rating, cables that fit no duct, conduit bends too tight
 	BudgetWarning string   // the total is over the plan's budget; "" when not
+	// JamWarnings are the duct sizes whose jam verdict a duct a few per cent wider or
+	// narrower would turn, one warning a size (jamWarnings); also among Warnings.
+	JamWarnings []string
 }
 
 // PullSection is one pull of one cable between two pull points, in the leg's travel order
@@ -1043,6 +1046,8 @@ func (r *run) ductFill() {
 		}
 		pack(&x.sp, x.f.Ducts, x.a, x.ods, x.legs, hint)
 	}
+	e.JamWarnings = jamWarnings(e.Fill, design.Innerduct(), design.CablesPerDuct)
+	e.Warnings = append(e.Warnings, e.JamWarnings...)
 }
 
 // cover is the cheapest combination of the given sizes (ascending, each priced at

@@ -973,6 +973,9 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 	if s.Infeasible > 0 {
 		fmt.Fprintf(w, "%s infeasible:\n%s", Counted(s.Infeasible, "leg", "legs"), route.InfeasibleList(legsInUnits(opt, r.InfeasibleLegs())))
 	}
+	for _, sh := range r.Shown { // as written: the campus's figures in its keys' units
+		fmt.Fprintf(w, "warning: %s\n", t(sh))
+	}
 	if len(s.MediaMix) > 0 {
 		links := map[string]map[string]bool{}
 		for _, l := range r.Legs {
@@ -1567,7 +1570,10 @@ func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
 	}
 	fmt.Fprintf(w, "warnings    %d\n", len(r.Warnings))
 	for _, m := range r.Warnings {
-		fmt.Fprintf(w, "  warning: %s\n", t(InUnits(opt, m)))
+		if !slices.Contains(r.UnitSlips, m) { // those as written: the campus's figures in its keys' units
+			m = InUnits(opt, m)
+		}
+		fmt.Fprintf(w, "  warning: %s\n", t(m))
 	}
 	return nil
 }

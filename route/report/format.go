@@ -1,6 +1,7 @@
 package report
 
 import (
+	"math"
 	"strconv"
 	"strings"
 
@@ -31,6 +32,17 @@ func (o Options) diameter(mm float64) string {
 		return strconv.FormatFloat(mm, 'f', 0, 64)
 	}
 	return strconv.FormatFloat(mm, 'f', 1, 64)
+}
+
+// ductDiameter is a duct's inside diameter as diameter writes it, but in millimetres to the
+// tenth when it has one (101.5 mm, the default, trade size 103 PVC Schedule 40: not "102",
+// beside the warnings that name it; 100 stays "100"), since a few tenths may turn the jam
+// band's verdict.
+func (o Options) ductDiameter(mm float64) string {
+	if o.imperial() {
+		return o.diameter(mm)
+	}
+	return strconv.FormatFloat(math.Round(mm*10)/10, 'f', -1, 64)
 }
 
 // diameters lists the cables' diameters with their unit, equal ones counted once in the

@@ -600,6 +600,10 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 	// Warnings are text made inside the model in metres (summary.json keeps them so): the
 	// report writes their lengths in its units, as it does the rule engine's reasons.
 	for _, w := range r.Warnings {
+		if slices.Contains(r.Shown, w) { // the campus's figures in its keys' units (route.Result.Shown)
+			v.Warnings = append(v.Warnings, w)
+			continue
+		}
 		v.Warnings = append(v.Warnings, output.InUnits(output.WriteOptions{Units: opt.Units}, w))
 	}
 	for _, n := range r.Notes {
@@ -1191,7 +1195,7 @@ func ductRows(fs []estimate.DuctFill, opt Options) ([]ductRow, int, listed) {
 		}
 		// The bar spans 0 to 100 % of the duct's area; the mark is the allowed fill.
 		w := math.Min(f.FillPct, 100)
-		row := ductRow{Span: f.Span, Pathway: f.PathwayID, Duct: duct, DuctID: opt.diameter(f.DuctIDMM),
+		row := ductRow{Span: f.Span, Pathway: f.PathwayID, Duct: duct, DuctID: opt.ductDiameter(f.DuctIDMM),
 			Cables: cables, Fill: strconv.FormatFloat(f.FillPct, 'f', 1, 64) + " %", Allowed: strconv.FormatFloat(f.AllowedPct, 'f', 0, 64) + " %",
 			BarW: num(w), LimitX: num(math.Min(f.AllowedPct, 100)), Over: f.FillPct > f.AllowedPct, JamRisk: f.JamRisk, Bad: !f.OK}
 		if f.JamRatio > 0 {

@@ -10,6 +10,7 @@ import (
 
 	"spanwright/geo"
 	"spanwright/media"
+	"spanwright/media/install"
 	"spanwright/route/items"
 	"spanwright/route/optimize"
 	"spanwright/route/plan"
@@ -202,7 +203,11 @@ func (lay *layout) explain(in optimize.Infeasible, l *site.Link, prob *optimize.
 		case optimize.FailReach:
 			msgs[i] = fmt.Sprintf("%s: the shortest route it may use is %.1f m along pathways with the slack loops it leaves in structures, beyond the %.1f m it reaches there", f.Name, f.ShortestM, f.ReachM)
 		default:
-			msgs[i] = f.Name + ": every route within reach crosses ducts too full for the cable" + ductsFull(prob, f.Full)
+			od := 0.0
+			if prob != nil && in.Demand >= 0 && in.Demand < len(prob.Demands) && f.Option >= 0 && f.Option < len(prob.Demands[in.Demand].Options) {
+				od = prob.Demands[in.Demand].Options[f.Option].CableODMM
+			}
+			msgs[i] = f.Name + ": every route within reach crosses ducts too full for the cable" + ductsFull(prob, f.Full, od)
 		}
 	}
 	order := make([]int, len(msgs))
@@ -220,17 +225,20 @@ func (lay *layout) explain(in optimize.Infeasible, l *site.Link, prob *optimize.
 // ductsFull names the edges of prob with no room for an option's cable on its shortest way
 // (optimize.OptionFailure.Full), each with its ducts and the cables the plan pulls in them, as
 // words to follow "crosses ducts too full for the cable": where ducts would have to be added
-// (tester 12 F5). "" when there are none to name (or no problem to name them by).
-func ductsFull(prob *optimize.Problem, full []optimize.FullEdge) string {
+// (tester 12 F5). A cable no empty duct takes is named with its diameter, odMM (what the ducts
+// take: the cable, or its innerduct; 0 unknown), and the ducts' inside diameter (wideWords). ""
+// when there are none to name (or no problem to name them by).
+func ductsFull(prob *optimize.Problem, full []optimize.FullEdge, odMM float64) string {
 	if prob == nil || len(full) == 0 {
 		return ""
 	}
-	var held, wide []string
+	var held []string
+	var wide []int
 	for _, f := range full {
 		ed := &prob.Edges[f.Edge]
 		switch {
 		case ed.MayAddDucts():
-			wide = append(wide, ed.ID)
+			wide = append(wide, f.Edge)
 		case f.Ducts == 0:
 			held = append(held, ed.ID+" (no spare duct)")
 		default:
@@ -238,20 +246,51 @@ func ductsFull(prob *optimize.Problem, full []optimize.FullEdge) string {
 				plural(f.Ducts, "spare duct", "spare ducts"), plural(f.Cables, "cable", "cables")))
 		}
 	}
-	spans := func(ids []string) string {
-		if len(ids) == 1 {
-			return "span " + ids[0]
-		}
-		return "spans " + strings.Join(ids, ", ")
-	}
 	var parts []string
 	if len(held) > 0 {
-		parts = append(parts, "no room on "+spans(held)+", where this plan may add no duct (NFPA 70 Chapter 9 fill)")
+		spans := "spans " + strings.Join(held, ", ")
+		if len(held) == 1 {
+			spans = "span " + held[0]
+		}
+		parts = append(parts, "no room on "+spans+", where this plan may add no duct (NFPA 70 Chapter 9 fill)")
 	}
 	if len(wide) > 0 {
-		parts = append(parts, "its cable is wider than a duct of "+spans(wide)+" takes (NFPA 70 Chapter 9 fill)")
+		parts = append(parts, wideWords(prob, wide, odMM))
 	}
 	return ": on the shortest way it may take, " + strings.Join(parts, "; and ")
+}
+
+// wideWords says that a cable of outside diameter odMM (0: not known) is wider than an empty
+// duct of the given edges of prob takes, naming the ducts' inside diameter with the spans of
+// each size (tester 15 F4: a duct_mm of 4, inches typed as millimetres, made 49 legs
+// infeasible, and the reason did not say how small the ducts are): one cable may fill 53 % of
+// a duct's area (NFPA 70 Chapter 9 Table 1), so at most 0.728 of its inside diameter across.
+// Diameters are in millimetres, which the outputs write in the run's units (output.InUnits).
+func wideWords(prob *optimize.Problem, edges []int, odMM float64) string {
+	bySize := map[float64][]string{}
+	innerduct := false
+	for _, e := range edges {
+		ed := &prob.Edges[e]
+		bySize[ed.DuctIDMM] = append(bySize[ed.DuctIDMM], ed.ID)
+		innerduct = innerduct || ed.Innerduct
+	}
+	var sizes []string
+	for _, d := range slices.Sorted(maps.Keys(bySize)) {
+		ids := bySize[d]
+		on := "span " + ids[0]
+		if len(ids) > 1 {
+			on = "spans " + strings.Join(ids, ", ")
+		}
+		sizes = append(sizes, fmt.Sprintf("%g mm inside (%s) takes, at most %.1f mm", d, on, math.Sqrt(install.FillOneCablePct/100)*d))
+	}
+	what := "its cable"
+	if innerduct {
+		what = "its innerduct"
+	}
+	if odMM > 0 {
+		what += fmt.Sprintf(", %g mm across,", odMM)
+	}
+	return what + " is wider than an empty duct of " + strings.Join(sizes, ", or one of ") + " (NFPA 70 Chapter 9 Table 1: one cable fills at most 53 % of a duct)"
 }
 
 // plural is n with the noun for its count, e.g. "1 spare duct", "3 spare ducts".

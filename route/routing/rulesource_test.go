@@ -123,16 +123,20 @@ func TestExplainInfeasible(t *testing.T) {
 	// those the rules keep off them (tester 12 F5); a full duct is named by its span, with its
 	// spare ducts and the cables in them (NFPA 70 Chapter 9 fill; a span that may have ducts
 	// added is full only for a cable wider than its ducts take).
-	prob := &optimize.Problem{Edges: []optimize.Edge{{ID: "LAT-01", Ducts: 1}, {ID: "SP-C-1"}, {ID: "NEW-1", Proposed: true}}}
+	// A cable no empty duct takes is named with its diameter and the ducts' inside diameter
+	// (tester 15 F4): one cable fills at most 53 % of a duct (NFPA 70 Chapter 9 Table 1, seen),
+	// so a 4 mm duct takes one of at most √0.53 × 4 = 2.9 mm (computed).
+	prob := &optimize.Problem{Edges: []optimize.Edge{{ID: "LAT-01", Ducts: 1, DuctIDMM: 101.5}, {ID: "SP-C-1", DuctIDMM: 101.5}, {ID: "NEW-1", Proposed: true, DuctIDMM: 4}},
+		Demands: []optimize.Demand{{Options: []optimize.Option{{}, {}, {}, {CableODMM: 10.5}}}}}
 	got := lay.explain(optimize.Infeasible{Reason: "raw", Options: []optimize.OptionFailure{
 		{Name: "cat6a", Kind: optimize.FailNoPathFlags, ExcludeFlags: all | flagDuct, BlockFlags: firstClassFlag<<1 | firstClassFlag<<2 | flagDuct},
 		{Name: "om4", Kind: optimize.FailReach, ShortestM: 612.34, ReachM: 400},
 		{Name: "os2", Kind: optimize.FailNoPath},
-		{Name: "om5", Kind: optimize.FailDucts, Full: []optimize.FullEdge{{Edge: 0, Ducts: 1, Cables: 3}, {Edge: 1}, {Edge: 2, Ducts: 1}}},
+		{Option: 3, Name: "om5", Kind: optimize.FailDucts, Full: []optimize.FullEdge{{Edge: 0, Ducts: 1, Cables: 3}, {Edge: 1}, {Edge: 2, Ducts: 1}}},
 	}}, &site.Link{From: "ADM", To: "OBS"}, prob, why)
 	want := "om5: every route within reach crosses ducts too full for the cable: on the shortest way it may take, no room on spans " +
 		"LAT-01 (1 spare duct, 3 cables of this plan in them), SP-C-1 (no spare duct), where this plan may add no duct (NFPA 70 Chapter 9 fill); " +
-		"and its cable is wider than a duct of span NEW-1 takes (NFPA 70 Chapter 9 fill); " +
+		"and its cable, 10.5 mm across, is wider than an empty duct of 4 mm inside (span NEW-1) takes, at most 2.9 mm (NFPA 70 Chapter 9 Table 1: one cable fills at most 53 % of a duct); " +
 		"om4: the shortest route it may use is 612.3 m along pathways with the slack loops it leaves in structures, beyond the 400.0 m it reaches there; " +
 		"cat6a: every pathway between ADM and OBS runs on spans it may not use; the shortest runs on ducts, where its cable does not fit the innerduct; " +
 		"and on buried spans (cat6a rejected by copper-outdoor: outdoors); and on duct, high EMI spans (cat6a rejected by copper-emi: EMI); " +

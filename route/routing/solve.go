@@ -313,11 +313,12 @@ func (m *Model) measure(ctx context.Context, s *site.Site, lay *layout, prob *op
 // spare ducts the routes kept before it fill, where this plan may add none; or a cable wider
 // than one duct there takes (NFPA 70 Chapter 9 Table 1, the packing's rule).
 func noRoom(prob *optimize.Problem, edges []int) string {
-	var none, filled, wide []string
+	var none, filled []string
+	var wide []int
 	for _, e := range edges {
 		switch ed := &prob.Edges[e]; {
 		case ed.MayAddDucts():
-			wide = append(wide, ed.ID)
+			wide = append(wide, e)
 		case ed.Ducts == 0:
 			none = append(none, ed.ID)
 		default:
@@ -338,7 +339,7 @@ func noRoom(prob *optimize.Problem, edges []int) string {
 		parts = append(parts, "the spare ducts of "+spans(filled, "", "")+" have no room for its cable after the routes kept before it (NFPA 70 Chapter 9 fill) and this plan may add none")
 	}
 	if len(wide) > 0 {
-		parts = append(parts, "its cable is wider than a duct of "+spans(wide, "", "")+" takes (NFPA 70 Chapter 9 fill)")
+		parts = append(parts, wideWords(prob, wide, 0))
 	}
 	return "a duct with no room: " + strings.Join(parts, "; ")
 }

@@ -56,6 +56,10 @@ type CheckReport struct {
 	// NearMisses lists the pathway ends that just miss a pathway or footprint (geo.NearMiss).
 	NearMisses []string
 	Warnings   []string
+	// UnitSlips are those of Warnings on a number that reads as typed in another unit
+	// (geo.Warning.UnitSlip): they speak of the campus's figures in its keys' units ("duct_mm"
+	// is 4 mm; inches? 4 in is 101.6 mm), so they are printed as written, in either units.
+	UnitSlips []string
 }
 
 // PathwayTally counts pathways of one type and status and their length in metres.
@@ -125,6 +129,9 @@ func (s *Site) Check(hub string) CheckReport {
 	}
 	for _, w := range s.Net.Warnings {
 		r.Warnings = append(r.Warnings, w.File+": "+w.Feature+": "+w.Message)
+		if w.UnitSlip {
+			r.UnitSlips = append(r.UnitSlips, r.Warnings[len(r.Warnings)-1])
+		}
 	}
 	for _, u := range s.Net.Unjoined {
 		w := u.Warning("; a plan that serves it is refused (to serve it, " + unjoinedFix + "; else skip its link)")
