@@ -68,7 +68,7 @@ type marginParts struct {
 	pairs, splices, repair int
 	pairGapDB, spliceGapDB float64 // per part: max(0, ANSI/TIA-568.3-D maximum − design loss)
 	repairDB               float64 // per repair splice
-	extraDB                float64 // the catalog's margin of the class (margins.multimode_db, singlemode_db)
+	extraDB                float64 // the catalog's margin of the class (margins.extra_multimode_db, extra_singlemode_db)
 	class                  string  // "multimode" or "single-mode"
 	floorDB                float64 // the plan's loss_margin_db
 }

@@ -387,9 +387,14 @@ type connectionsYAML struct {
 }
 
 type marginsYAML struct {
-	Pos                pos     `yaml:"-"`
-	MultimodeDB        float64 `yaml:"multimode_db" range:"db"`
-	SinglemodeDB       float64 `yaml:"singlemode_db" range:"db"`
+	Pos          pos     `yaml:"-"`
+	MultimodeDB  float64 `yaml:"extra_multimode_db" range:"db"`
+	SinglemodeDB float64 `yaml:"extra_singlemode_db" range:"db"`
+	// OldMultimodeDB and OldSinglemodeDB are the keys of these margins before they were
+	// derived from the channel (2026-12-06), when they held what is derived now: read only to
+	// refuse them (retiredMargins), never silently added on top.
+	OldMultimodeDB     float64 `yaml:"multimode_db" range:"db"`
+	OldSinglemodeDB    float64 `yaml:"singlemode_db" range:"db"`
 	RepairSplicesPerKm float64 `yaml:"repair_splices_per_km" range:"per-km"`
 }
 
@@ -529,6 +534,15 @@ func ParseCatalog(name string, data []byte) (*Catalog, error) {
 		cat.DesignSpliceDB = cn.DesignSpliceDB
 	}
 	c.require(f.Pos, "", "connections", "media", "applications")
+	for _, k := range []string{"multimode_db", "singlemode_db"} {
+		if f.Margins.Pos.Has(k) {
+			// Review 21 F6: a catalog written before held the margin that is now derived in
+			// these keys (0.5 dB, the two pairs' gap to their maxima); read as an extra it
+			// would count that gap twice, and multimode reach would shrink without a word.
+			c.bad(f.Margins.Pos, "margins", k, ErrBadValue,
+				"no longer read: since 2026-12-06 the margin of each link is derived from its mated pairs and splices (what each may lose at its maximum, connections.mated_pair_db and splice_db, beyond its design loss), which is what this key held; remove it, or write extra_%s for a margin on top of that", k)
+		}
+	}
 	if f.Pos.Has("connections") && c.require(cn.Pos, "connections", "mated_pair_db", "splice_db") {
 		for _, v := range []struct {
 			key string
@@ -1041,7 +1055,7 @@ func (c *Catalog) Table(w io.Writer, rateGbps float64) error {
 		fmt.Sprintf("connections: field acceptance (ANSI/TIA-568.3-D maxima) mated pair %.2f dB, splice %.2f dB; design mated pair %.2f dB, splice %.2f dB",
 			c.MatedPairDB, c.SpliceDB, c.DesignPairDB, c.DesignSpliceDB),
 		fmt.Sprintf("margins: what each mated pair and splice may lose at its ANSI/TIA-568.3-D maximum beyond its design loss (%.2f dB a pair, %.2f dB a splice), "+
-			"plus %.2f dB multimode, %.2f dB single-mode; single-mode also %g repair splices per km of outside plant",
+			"plus %.2f dB multimode, %.2f dB single-mode (extra_multimode_db, extra_singlemode_db); single-mode also %g repair splices per km of outside plant",
 			max(0, c.MatedPairDB-c.DesignPairDB), max(0, c.SpliceDB-c.DesignSpliceDB), c.Margins.MultimodeDB, c.Margins.SinglemodeDB, c.Margins.RepairSplicesPerKm),
 	}
 	if len(meets) > 0 {

@@ -416,6 +416,12 @@ func TestCatalogBad(t *testing.T) {
 		{"neg_atten.yaml", ErrBadValue, []string{`neg_atten.yaml:8:34: medium "om4": attenuation_db_per_km.850: want dB/km from 0 to 1000, got -3.5`}},
 		{"missing_range.yaml", ErrMissingField, []string{`missing_range.yaml:25:9: application "10GBASE-SR" on "om4": range_m: missing`}},
 		{"unknown_field.yaml", ErrUnknownField, []string{`unknown_field.yaml:8:5: medium "om4": colour: unknown key`}},
+		// Review 21 F6: the keys that held the derived margin before 2026-12-06 are refused,
+		// not added on top of it.
+		{"old_margins.yaml", ErrBadValue, []string{
+			`old_margins.yaml:4:3: margins: multimode_db: no longer read: since 2026-12-06 the margin of each link is derived from its mated pairs and splices`,
+			`old_margins.yaml:5:3: margins: singlemode_db: no longer read: `,
+		}},
 		{"dup_id.yaml", ErrDuplicateID, []string{`dup_id.yaml:18:5: medium "om4": id: medium "om4" already defined at line 4`}},
 		{"unknown_medium.yaml", ErrUnknownReference, []string{`unknown_medium.yaml:25:9: application "10GBASE-SR" on "om9": medium: no medium "om9"`}},
 		{"many.yaml", ErrWrongType, []string{

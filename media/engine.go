@@ -147,7 +147,7 @@ func NewCheckEngine(c *Catalog, r *Rules, p *PriceBook, opt EngineOptions) (*Eng
 		for _, o := range []struct {
 			name string
 			v    float64
-		}{{"multimode_db", opt.Margins.MultimodeDB}, {"singlemode_db", opt.Margins.SinglemodeDB}, {"repair_splices_per_km", opt.Margins.RepairSplicesPerKm}} {
+		}{{"extra_multimode_db", opt.Margins.MultimodeDB}, {"extra_singlemode_db", opt.Margins.SinglemodeDB}, {"repair_splices_per_km", opt.Margins.RepairSplicesPerKm}} {
 			if !finite(o.v) || o.v < 0 {
 				errs.Add(fmt.Errorf("media: option margins %s: %w: want >= 0, got %g", o.name, ErrBadValue, o.v))
 			}

@@ -91,7 +91,7 @@ func ExampleCatalog_Table() {
 	// os2     indoor-outdoor  indoor/outdoor loose tube, riser listed             OFNR      none, all-dielectric  yes       no      no             2670 (12-fibre 1335)
 	// os2     osp-loose-tube  outside plant loose tube, all-dielectric, unlisted  unlisted  none, all-dielectric  yes       no      yes            2670
 	// connections: field acceptance (ANSI/TIA-568.3-D maxima) mated pair 0.75 dB, splice 0.30 dB; design mated pair 0.50 dB, splice 0.30 dB
-	// margins: what each mated pair and splice may lose at its ANSI/TIA-568.3-D maximum beyond its design loss (0.25 dB a pair, 0.00 dB a splice), plus 0.00 dB multimode, 0.00 dB single-mode; single-mode also 0.5 repair splices per km of outside plant
+	// margins: what each mated pair and splice may lose at its ANSI/TIA-568.3-D maximum beyond its design loss (0.25 dB a pair, 0.00 dB a splice), plus 0.00 dB multimode, 0.00 dB single-mode (extra_multimode_db, extra_singlemode_db); single-mode also 0.5 repair splices per km of outside plant
 	// higher grades: om4 also uses om3's figures; om5 also uses om4's figures
 	// ranges and losses per IEEE 802.3, see catalog.yaml (embedded)
 }
