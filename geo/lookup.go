@@ -1,5 +1,13 @@
 package geo
 
+import (
+	"cmp"
+	"fmt"
+	"slices"
+	"strconv"
+	"strings"
+)
+
 // index builds the lookup maps; Build calls it once, and a Network is read-only afterwards,
 // so the maps are safe to share across goroutines.
 func (n *Network) index() {
@@ -67,4 +75,77 @@ func (n *Network) AccessOf(building string) (Access, bool) {
 		}
 	}
 	return Access{}, false
+}
+
+// Stretches names the work on the spans with the given IDs by the pathways drawn, so that
+// the names do not depend on where a pathway is cut into spans (a junction where a building's
+// counted lateral might tap it, used or not, cuts a span in two): the spans of one pathway
+// that follow one another along it (Span.ID's piece order, each meeting the next at a
+// junction) are one stretch, named "pathway P" when it is the whole pathway, else "pathway P,
+// A–B m", A and B the metres along the pathway's spans from its first (its west or south end,
+// pieceOrder), to 0.1 m. An ID that is no span, or a span Build did not name, is named "span
+// ID". The names are distinct and sorted.
+func (n *Network) Stretches(ids []string) []string {
+	type piece struct {
+		k  int // the piece's number along its pathway, 0 when its ID has none
+		sp *Span
+	}
+	want := map[string]bool{}
+	byPathway := map[string]bool{}
+	var out []string
+	for _, id := range ids {
+		if sp, ok := n.Span(id); ok {
+			want[id], byPathway[sp.PathwayID] = true, true
+		} else {
+			out = append(out, "span "+id)
+		}
+	}
+	pieces := map[string][]piece{}
+	for i := range n.Spans {
+		sp := &n.Spans[i]
+		if !byPathway[sp.PathwayID] {
+			continue
+		}
+		k := 1
+		if sp.ID != sp.PathwayID {
+			var err error
+			if k, err = strconv.Atoi(strings.TrimPrefix(sp.ID, sp.PathwayID+"/")); err != nil || k < 1 {
+				k = 0
+			}
+		}
+		if k == 0 {
+			if want[sp.ID] {
+				out = append(out, "span "+sp.ID)
+			}
+			continue
+		}
+		pieces[sp.PathwayID] = append(pieces[sp.PathwayID], piece{k, sp})
+	}
+	meets := func(a, b *Span) bool { return a.From == b.From || a.From == b.To || a.To == b.From || a.To == b.To }
+	for pw, ps := range pieces {
+		slices.SortFunc(ps, func(a, b piece) int { return cmp.Compare(a.k, b.k) })
+		atM, startM, start := 0.0, 0.0, -1
+		flush := func(end int) {
+			if start == 0 && end == len(ps) {
+				out = append(out, "pathway "+pw)
+			} else {
+				out = append(out, fmt.Sprintf("pathway %s, %.1f–%.1f m", pw, startM, atM))
+			}
+			start = -1
+		}
+		for i, p := range ps {
+			if start >= 0 && (!want[p.sp.ID] || !meets(ps[i-1].sp, p.sp)) {
+				flush(i)
+			}
+			if want[p.sp.ID] && start < 0 {
+				start, startM = i, atM
+			}
+			atM += p.sp.LengthM
+		}
+		if start >= 0 {
+			flush(len(ps))
+		}
+	}
+	slices.Sort(out)
+	return slices.Compact(out)
 }

@@ -205,10 +205,10 @@ func TestDiverseOneEntranceSuggests(t *testing.T) {
 // loops 15 m north of it off S (from x = 100 up, along y = 45, down to x = 200). B gets a
 // counted lateral to each (Build, every pathway within design.max_lateral_m). The legs leave
 // by the two laterals: one along S from its tap, the other along M and back onto S beyond
-// x = 200 or before x = 100. They share no stretch of S (its group is parted at the tap of a
-// counted lateral), so the link is diverse and both legs are planned and priced, not left
+// x = 200 or before x = 100. They share no run of S (a run ends where M meets it, a junction
+// of three spans: runGroups), so the link is diverse and both legs are planned and priced, not left
 // NO-DIVERSE because both use S somewhere (physically diverse pathways, ANSI/TIA-569 (from
-// memory); parting a duct's risk at a tap: common practice, no published source).
+// memory); parting a duct's risk at its branch points: common practice, no published source).
 func TestDiverseCountedLaterals(t *testing.T) {
 	t.Parallel()
 	r, err := testplan.PullSolveJSON(t, oneEntranceCampus(duct("S", 0, 0, 50, 0, 150, 0, 300, 0), duct("M", 100, 0, 100, 45, 200, 45, 200, 0)), diverse("B"))
@@ -298,5 +298,25 @@ func TestDiverseAvoidsCrossingAtTap(t *testing.T) {
 				t.Errorf("report lacks %q", want)
 			}
 		}
+	}
+}
+
+// TestDiverseTwoTapsOneRun: B declares two entrances on its south wall, 20 m apart, each with
+// a counted lateral to S; no other pathway is within design.max_lateral_m of it. The legs
+// could leave by the two taps one each way along S, but S from H1 to H5 is one run of duct
+// with no branch point between (no structure, no side pathway, no wall): one duct bank in one
+// trench, which a designer does not count as two ways in (physically diverse entrance
+// pathways, ANSI/TIA-569 (from memory); the run as the unit of risk: common practice, no
+// published source). So the link is NO-DIVERSE, naming the run by its pathway and the
+// structures at its ends.
+func TestDiverseTwoTapsOneRun(t *testing.T) {
+	t.Parallel()
+	r, err := testplan.PullSolveJSON(t, oneEntranceCampus(duct("S", 0, 0, 50, 0, 300, 0), entrance("B-W", "B", 140, 10), entrance("B-E", "B", 160, 10)), diverse("B"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	d := legsTo(t, r, "B")[1]
+	if d.Feasible || d.ReasonCode != routing.CodeNoDiverse || !strings.Contains(d.Reason, "shared-risk group S between H1 and H5") {
+		t.Errorf("diverse leg feasible %v, code %q, reason %q; want NO-DIVERSE naming S between H1 and H5", d.Feasible, d.ReasonCode, d.Reason)
 	}
 }

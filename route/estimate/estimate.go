@@ -311,6 +311,9 @@ type CountWork struct {
 	TrenchM float64 // metres of trench or bore beside existing banks laid for the count (in NewM)
 	Cents   int64   // what they cost, as the optimizer prices them (optimize.Edge.AddedCents)
 	Spans   []CountSpan
+	// Where names the Spans by the stretches of pathway drawn (geo.Network.Stretches), as the
+	// bill names new work: what the report and the terminal say.
+	Where []string
 }
 
 // CountSpan is one span where the count of pulls lays new work: Ducts ducts of LengthM,
@@ -399,13 +402,41 @@ const (
 func fromLeg(l *routing.Leg) string { return "leg " + l.Label() }
 func fromBuilding(b string) string  { return "building " + b }
 func fromSpan(id string) string     { return "span " + id }
+
+// stretches names the spans among from (fromSpan) by the stretches of pathway drawn
+// (geo.Network.Stretches), the rest as they are, sorted: a line of the bill names the work
+// on one drawn duct once, however many spans the candidates' taps cut it into.
+func (r *run) stretches(from []string) []string {
+	var ids, out []string
+	for _, f := range from {
+		if id, ok := strings.CutPrefix(f, fromSpan("")); ok {
+			ids = append(ids, id)
+		} else {
+			out = append(out, f)
+		}
+	}
+	if len(ids) == 0 {
+		return from
+	}
+	out = append(out, r.Site.Net.Stretches(ids)...)
+	slices.Sort(out)
+	return slices.Compact(out)
+}
 func fromEntrance(e routing.EntranceUse) string {
 	return "entrance " + e.Entrance + " of building " + e.Building
 }
 
 // fromHoleEntry names a maintenance hole entry by the hole and the span whose new duct
 // enters it (tester 11's finding 12: the bill named the span alone).
-func fromHoleEntry(hole, span string) string { return "maintenance hole " + hole + " for span " + span }
+// fromHoleEntry and fromWall name a wall new duct along a pathway enters, a maintenance
+// hole's or a building's, by the pathway drawn: not by span, which a junction where a counted
+// lateral might tap cuts (review 20 F5).
+func fromHoleEntry(hole, pathway string) string {
+	return "maintenance hole " + hole + " for pathway " + pathway
+}
+func fromWall(building, pathway string) string {
+	return "building " + building + " for pathway " + pathway
+}
 
 // fromPoleRiser names a pole riser by the handhole at the pole's foot (the lateral's tap)
 // and the entrance whose lateral comes down it.
@@ -1422,7 +1453,11 @@ func (r *run) construction() {
 			r.newFrom[keyAddedDuct] = append(r.newFrom[keyAddedDuct], fromSpan(f.Span))
 			if n := items.AddedDuctWalls(builtAt, &sp); n > 0 {
 				c.AddedDuctWalls += n
-				r.newFrom[keyDuctWall] = append(r.newFrom[keyDuctWall], fromSpan(f.Span))
+				for _, e := range s.Net.Entrances {
+					if e.Built && (e.Junction == sp.From || e.Junction == sp.To) {
+						r.newFrom[keyDuctWall] = append(r.newFrom[keyDuctWall], fromWall(e.Building, sp.PathwayID))
+					}
+				}
 			}
 			c.holeWalls(s, &sp, r.newFrom)
 		}
@@ -1438,6 +1473,13 @@ func (r *run) construction() {
 			c.ForCount.Cents += fc.Cents
 		}
 	}
+	if len(c.ForCount.Spans) > 0 {
+		var ids []string
+		for _, sp := range c.ForCount.Spans {
+			ids = append(ids, sp.Span)
+		}
+		c.ForCount.Where = s.Net.Stretches(ids)
+	}
 	c.listPieces()
 	r.Estimate.Construction = c
 	if w := c.assumedWarning(); w != "" {
@@ -1451,7 +1493,7 @@ func (c *Construction) holeWalls(s *site.Site, sp *geo.Span, from map[string][]s
 	for _, hole := range items.HolesEntered(s, sp) {
 		c.HoleWalls++
 		c.HoleEntries = append(c.HoleEntries, HoleEntry{Hole: hole, Span: sp.ID})
-		from[keyHoleWall] = append(from[keyHoleWall], fromHoleEntry(hole, sp.ID))
+		from[keyHoleWall] = append(from[keyHoleWall], fromHoleEntry(hole, sp.PathwayID))
 	}
 }
 
@@ -1743,19 +1785,19 @@ func (r *run) quantities() {
 	}
 	con := e.Construction
 	for _, sf := range slices.Sorted(maps.Keys(con.TrenchM)) {
-		e.Quantities = append(e.Quantities, sourced(items.Trench(sf, con.TrenchM[sf]), r.newFrom[sf])...)
+		e.Quantities = append(e.Quantities, sourced(items.Trench(sf, con.TrenchM[sf]), r.stretches(r.newFrom[sf]))...)
 	}
 	one := func(q media.Quantity, from []string) media.Quantity {
 		q.From = from
 		return q
 	}
 	if con.BoreM > 0 { // a price book without bores stays valid while no plan bores
-		e.Quantities = append(e.Quantities, one(items.Bore(con.BoreM), r.newFrom[keyBore]))
+		e.Quantities = append(e.Quantities, one(items.Bore(con.BoreM), r.stretches(r.newFrom[keyBore])))
 	}
 	for _, t := range slices.Sorted(maps.Keys(con.PathwayM)) {
-		e.Quantities = append(e.Quantities, one(items.NewPathway(t, con.PathwayM[t]), r.newFrom[keyPathway+t]))
+		e.Quantities = append(e.Quantities, one(items.NewPathway(t, con.PathwayM[t]), r.stretches(r.newFrom[keyPathway+t])))
 	}
-	e.Quantities = append(e.Quantities, one(items.AddedDuct(con.AddedDuctM), r.newFrom[keyAddedDuct]),
+	e.Quantities = append(e.Quantities, one(items.AddedDuct(con.AddedDuctM), r.stretches(r.newFrom[keyAddedDuct])),
 		one(items.JoinHandholes(len(con.NewJunctions)), fromJunctions(con.NewJunctions)))
 	if len(con.TurnJunctions) > 0 { // a price book without handholes stays valid while no route turns
 		e.Quantities = append(e.Quantities, one(items.TurnHandholes(len(con.TurnJunctions)), fromJunctions(con.TurnJunctions)))
@@ -1767,7 +1809,7 @@ func (r *run) quantities() {
 				on = append(on, f)
 			}
 		}
-		e.Quantities = append(e.Quantities, one(items.RunHandholes(len(con.RunHandholes)), on))
+		e.Quantities = append(e.Quantities, one(items.RunHandholes(len(con.RunHandholes)), r.stretches(on)))
 	}
 	if len(con.TapJunctions) > 0 {
 		var at []string

@@ -6,7 +6,6 @@ import (
 	"encoding/csv"
 	"errors"
 	"fmt"
-	"maps"
 	"math"
 	"os"
 	"path/filepath"
@@ -940,8 +939,9 @@ func TestBidBases(t *testing.T) {
 // TestBillLinesTraced is TestConstruction's campus read for where each bill line comes from:
 // the termination and transceiver lines name exactly the feasible legs of their medium and
 // transceiver, each enclosure line the buildings given that size, the asphalt trench the
-// opened span, the turf trench the spans given a duct, the added duct both, and the join
-// handhole its junction (the project's own rule for traceable bills).
+// opened span, the turf trench the spans given a duct, the added duct both (spans named by the
+// stretches of pathway they make up), and the join handhole its junction (the project's own
+// rule for traceable bills).
 func TestBillLinesTraced(t *testing.T) {
 	t.Parallel()
 	// P's method given as trench, as in TestConstruction.
@@ -986,7 +986,20 @@ func TestBillLinesTraced(t *testing.T) {
 			t.Errorf("%s: no line", item)
 			continue
 		}
-		if got, w := strings.Join(l.From, "; "), strings.Join(slices.Sorted(maps.Keys(want)), "; "); got != w {
+		// Spans are named by the stretches of pathway drawn (geo.Network.Stretches, its own test).
+		var ids, names []string
+		for f := range want {
+			if id, ok := strings.CutPrefix(f, "span "); ok {
+				ids = append(ids, id)
+			} else {
+				names = append(names, f)
+			}
+		}
+		if len(ids) > 0 {
+			names = append(names, r.Site.Net.Stretches(ids)...)
+		}
+		slices.Sort(names)
+		if got, w := strings.Join(l.From, "; "), strings.Join(names, "; "); got != w {
 			t.Errorf("%s: from %q, want %q", item, got, w)
 		}
 	}
@@ -1280,7 +1293,7 @@ func TestHoleEntries(t *testing.T) {
 		t.Errorf("without a price: summary not_priced %q", got)
 	}
 	// Each entry is placed (tester 11's finding 12): the bill's line is from the hole and the
-	// span, and the structures table names the entry on MH-1's row.
+	// pathway (not the span: review 20 F5), and the structures table names the entry on MH-1's row.
 	sts, err := output.StructuresOf(r)
 	if err != nil {
 		t.Fatal(err)
@@ -1298,7 +1311,8 @@ func TestHoleEntries(t *testing.T) {
 		if h.Hole != "MH-1" {
 			t.Errorf("hole entry %+v, want MH-1", h)
 		}
-		if from := "maintenance hole MH-1 for span " + h.Span; !slices.Contains(line.From, from) {
+		sp, _ := r.Site.Net.Span(h.Span)
+		if from := "maintenance hole MH-1 for pathway " + sp.PathwayID; !slices.Contains(line.From, from) {
 			t.Errorf("bill line from %q, want %q among them", line.From, from)
 		}
 		if want := "new duct entry (" + h.Span + ")"; !strings.Contains(purpose, want) {

@@ -261,21 +261,61 @@ func verifyErr(p *Problem, sol *Solution) error {
 	return nil
 }
 
-// disjointErr checks two legs share no edge, no interior node and no group > 0.
+// disjointErr checks two legs share no edge, no interior node and no group > 0, but a group
+// parted at ends (Edge.EndParted) along which both leave s, or both reach t: the hops of
+// each along it from there do not count.
 func disjointErr(p *Problem, s, t int, a, b Leg) error {
 	edges := map[int]bool{}
-	groups := map[int]bool{}
 	for _, h := range a.Hops {
 		edges[h.Edge] = true
-		if g := p.Edges[h.Edge].Group; g > 0 {
-			groups[g] = true
-		}
 	}
 	for _, h := range b.Hops {
 		if edges[h.Edge] {
 			return fmt.Errorf("legs share edge %d", h.Edge)
 		}
-		if g := p.Edges[h.Edge].Group; g > 0 && groups[g] {
+	}
+	// Each leg's edges from s to t.
+	var es [2][]int
+	for k, l := range []Leg{a, b} {
+		for _, h := range l.Hops {
+			es[k] = append(es[k], h.Edge)
+		}
+		if ns := l.Nodes(p.Edges); len(ns) > 0 && ns[0] != s {
+			slices.Reverse(es[k])
+		}
+	}
+	for end := range 2 {
+		if len(es[0]) == 0 || len(es[1]) == 0 {
+			break
+		}
+		at := func(k int) int { // the edge at this end of leg k
+			if end == 0 {
+				return es[k][0]
+			}
+			return es[k][len(es[k])-1]
+		}
+		g := p.Edges[at(0)].Group
+		if !p.Edges[at(0)].EndParted || p.Edges[at(1)].Group != g {
+			continue
+		}
+		for k := range 2 {
+			for len(es[k]) > 0 && p.Edges[at(k)].Group == g {
+				if end == 0 {
+					es[k] = es[k][1:]
+				} else {
+					es[k] = es[k][:len(es[k])-1]
+				}
+			}
+		}
+	}
+	groups := map[int]bool{}
+	for _, e := range es[0] {
+		if g := p.Edges[e].Group; g > 0 {
+			groups[g] = true
+		}
+	}
+	for _, e := range es[1] {
+		if g := p.Edges[e].Group; g > 0 && groups[g] {
 			return fmt.Errorf("legs share group %d", g)
 		}
 	}

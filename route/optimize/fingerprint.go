@@ -52,6 +52,7 @@ func Fingerprint(p *Problem, opt Settings) (sum [sha256.Size]byte, ok bool) {
 		f.bool(e.Proposed)
 		f.int(e.FixedCents)
 		f.int(int64(e.Group))
+		f.bool(e.EndParted)
 		f.uint(e.Flags)
 		f.int(int64(e.Ducts))
 		f.float(e.DuctIDMM)

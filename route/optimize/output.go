@@ -367,11 +367,7 @@ func (sv *solver) singlePointOn(d int, w func(e int32) (int64, bool)) (*SinglePo
 		return nil, "a diverse pair exists but none fits the reach of any medium or the ducts' capacity"
 	}
 	// Does some group on the pair separate s from t on its own?
-	gs := sv.groupsOf(res.legs[0])
-	for _, cand := range gs {
-		if !slicesContains(sv.groupsOf(res.legs[1]), cand) {
-			continue
-		}
+	for _, cand := range sv.sharedGroups(res.legs) {
 		if !sv.srch.run(s, t, func(e int32) (int64, bool) {
 			if sv.p.Edges[e].Group == cand {
 				return 0, false
@@ -382,13 +378,4 @@ func (sv *solver) singlePointOn(d int, w func(e int32) (int64, bool)) (*SinglePo
 		}
 	}
 	return &SinglePoint{Kind: PointGroup, Index: g}, fmt.Sprintf("every diverse pair found shares group %d (group-disjoint routing is a heuristic here)", g)
-}
-
-func slicesContains(s []int, v int) bool {
-	for _, x := range s {
-		if x == v {
-			return true
-		}
-	}
-	return false
 }

@@ -123,22 +123,59 @@ func (sv *solver) noPair(d, c int) bool {
 	return sv.pairless[k] == 2
 }
 
-// groupsOf returns the sorted distinct groups (> 0) of a leg.
-func (sv *solver) groupsOf(leg []Hop) []int {
-	var gs []int
-	for _, h := range leg {
-		if g := sv.p.Edges[h.Edge].Group; g > 0 {
-			gs = append(gs, g)
+// counted returns, for each of a demand's two legs (both from its source to its target),
+// the hops that count for its shared-risk groups, legs[k][from[k]:to[k]]: all of them, but
+// where both legs leave the source along one group parted at ends (Edge.EndParted), one each
+// way, the hops of each along it from there are left out, and so at the target. Such a group
+// is one run of duct with no branch between its ends: the two sides of the demand's own end
+// meet nowhere else (the legs share no node), and the end itself is the demand's single point.
+func (sv *solver) counted(legs [2][]Hop) (from, to [2]int) {
+	to = [2]int{len(legs[0]), len(legs[1])}
+	if to[0] == 0 || to[1] == 0 {
+		return from, to
+	}
+	e := sv.p.Edges
+	if a := &e[legs[0][0].Edge]; a.EndParted && a.Group == e[legs[1][0].Edge].Group {
+		for k := range 2 {
+			for from[k] < to[k] && e[legs[k][from[k]].Edge].Group == a.Group {
+				from[k]++
+			}
 		}
 	}
-	slices.Sort(gs)
-	return slices.Compact(gs)
+	if a := &e[legs[0][to[0]-1].Edge]; a.EndParted && a.Group == e[legs[1][to[1]-1].Edge].Group {
+		for k := range 2 {
+			for to[k] > from[k] && e[legs[k][to[k]-1].Edge].Group == a.Group {
+				to[k]--
+			}
+		}
+	}
+	return from, to
 }
 
-// sharedGroup returns the smallest group both legs use, or 0.
+// sharedGroups returns the sorted groups both legs of a demand use (counted).
+func (sv *solver) sharedGroups(legs [2][]Hop) []int {
+	from, to := sv.counted(legs)
+	var gs [2][]int
+	for k := range 2 {
+		for _, h := range legs[k][from[k]:to[k]] {
+			if g := sv.p.Edges[h.Edge].Group; g > 0 {
+				gs[k] = append(gs[k], g)
+			}
+		}
+		slices.Sort(gs[k])
+		gs[k] = slices.Compact(gs[k])
+	}
+	return slices.DeleteFunc(gs[0], func(g int) bool {
+		_, ok := slices.BinarySearch(gs[1], g)
+		return !ok
+	})
+}
+
+// sharedGroup returns the smallest group both legs of a demand use (counted), or 0.
 func (sv *solver) sharedGroup(legs [2][]Hop) int {
+	from, to := sv.counted(legs)
 	a := sv.gbuf[:0]
-	for _, h := range legs[0] {
+	for _, h := range legs[0][from[0]:to[0]] {
 		if g := sv.p.Edges[h.Edge].Group; g > 0 {
 			a = append(a, g)
 		}
@@ -149,7 +186,7 @@ func (sv *solver) sharedGroup(legs [2][]Hop) int {
 	}
 	slices.Sort(a)
 	shared := 0
-	for _, h := range legs[1] {
+	for _, h := range legs[1][from[1]:to[1]] {
 		if g := sv.p.Edges[h.Edge].Group; g > 0 && (shared == 0 || g < shared) {
 			if _, ok := slices.BinarySearch(a, g); ok {
 				shared = g

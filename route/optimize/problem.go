@@ -54,6 +54,12 @@ type Edge struct {
 	// Group is the shared-risk group (duct bank, trench) of the edge; edges with the same
 	// Group > 0 fail together. Group 0 means the edge shares its risk with no other edge.
 	Group int
+	// EndParted says the edge's group is one run of duct with no branch between its ends (a
+	// chain of edges): a demand's two legs that both leave its source, or both reach its
+	// target, along the group (one each way) do not share the group by those first (last)
+	// hops, so the group is parted at the demand's own ends and nowhere else on its account.
+	// Every edge of a group has the same EndParted.
+	EndParted bool
 
 	// Flags holds FlagHighEMI, FlagOutdoor and caller-defined bits.
 	Flags uint64
@@ -366,6 +372,7 @@ func validate(p *Problem, s Settings) error {
 	if p.Nodes < 0 {
 		bad("nodes: want >= 0, got %d", p.Nodes)
 	}
+	parted := map[int]bool{} // group → EndParted of its first edge
 	for i := range p.Edges {
 		e := &p.Edges[i]
 		name := ref{"edge", i, e.ID}
@@ -415,6 +422,16 @@ func validate(p *Problem, s Settings) error {
 		}
 		if e.Group < 0 {
 			bad("%s: group: want >= 0, got %d", name, e.Group)
+		}
+		if e.EndParted && e.Group == 0 {
+			bad("%s: parted at ends: want a group > 0", name)
+		}
+		if e.Group > 0 {
+			if first, ok := parted[e.Group]; !ok {
+				parted[e.Group] = e.EndParted
+			} else if first != e.EndParted {
+				bad("%s: parted at ends: want the same for every edge of group %d", name, e.Group)
+			}
 		}
 	}
 	if len(p.NoTransit) != 0 && len(p.NoTransit) != p.Nodes {

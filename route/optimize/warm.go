@@ -1,7 +1,5 @@
 package optimize
 
-import "slices"
-
 // Warm starts (Settings.Start): the search begins from the routes of an earlier solution
 // instead of routing the demands one by one.
 
@@ -60,8 +58,7 @@ func (sv *solver) warmChoice(d int) (choice, bool) {
 	base, cents := sv.profBase[sv.optProf[d][o]], sv.profCent[sv.optProf[d][o]]
 	c := choice{opt: o}
 	var edges, inner []int
-	var groups [2][]int // per leg: one leg may pass several edges of one group, two legs may not share one
-	for l, leg := range r.Legs {
+	for _, leg := range r.Legs {
 		hops := leg
 		if sv.from[d] != dm.Source {
 			hops = reverseHops(leg)
@@ -91,9 +88,6 @@ func (sv *solver) warmChoice(d int) (choice, bool) {
 			c.varCost += cents[e]
 			mm += sv.net.lenMM[e]
 			edges = append(edges, e)
-			if ed.Group > 0 && !slices.Contains(groups[l], ed.Group) {
-				groups[l] = append(groups[l], ed.Group)
-			}
 		}
 		if v != sv.to[d] || len(hops) == 0 || mm > sv.reach[d][o] {
 			return choice{}, false
@@ -101,7 +95,8 @@ func (sv *solver) warmChoice(d int) (choice, bool) {
 		c.lenMM += mm
 		c.legs = append(c.legs, hops)
 	}
-	if hasDup(edges) || hasDup(inner) || (len(c.legs) == 2 && hasDup(append(groups[0], groups[1]...))) {
+	// One leg may pass several edges of one group; two legs may share none (sharedGroup).
+	if hasDup(edges) || hasDup(inner) || (len(c.legs) == 2 && sv.sharedGroup([2][]Hop{c.legs[0], c.legs[1]}) != 0) {
 		return choice{}, false
 	}
 	return c, true

@@ -39,23 +39,23 @@ func CountText(c estimate.CountWork, perDuct int, length func(m float64) string,
 		rule, strings.Join(laid, " and "), countSpansText(c), money(c.Cents))
 }
 
-// maxCountSpans is the most spans CountText names; the rest are counted.
+// maxCountSpans is the most stretches CountText names; the rest are counted.
 const maxCountSpans = 10
 
-// countSpansText names where the count lays its work (estimate.CountWork.Spans), " (span
-// EA-3/1)" or " (2 spans: EA-3/1, S-TWR-E)", at most maxCountSpans of them then "and N more";
-// "" when none is listed. Where to dig is what the owner weighs the count against, and what a
-// bidder prices (review 17 F5: the figures said how much, never where).
+// countSpansText names where the count lays its work (estimate.CountWork.Where, the
+// stretches of pathway drawn, as the bill names them), " (on pathway EA-3)" or " (2
+// stretches: pathway EA-3; pathway S-TWR-E, 0.0–45.2 m)", at most maxCountSpans of them then
+// "and N more"; "" when none is listed. Where to dig is what the owner weighs the count
+// against, and what a bidder prices (review 17 F5: the figures said how much, never where).
 func countSpansText(c estimate.CountWork) string {
-	ids := CountSpans(c)
-	switch len(ids) {
+	switch len(c.Where) {
 	case 0:
 		return ""
 	case 1:
-		return " (span " + ids[0] + ")"
+		return " (on " + c.Where[0] + ")"
 	}
-	shown, more := input.Shown(ids, maxCountSpans)
-	return fmt.Sprintf(" (%d spans: %s%s)", len(ids), strings.Join(shown, ", "), more)
+	shown, more := input.Shown(c.Where, maxCountSpans)
+	return fmt.Sprintf(" (%d stretches: %s%s)", len(c.Where), strings.Join(shown, "; "), more)
 }
 
 // CountSpans lists the ids of the spans where the count of pulls lays duct, trench or bore

@@ -3,6 +3,7 @@ package output
 import (
 	"bytes"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
@@ -35,8 +36,8 @@ func TestCountTextRule(t *testing.T) {
 
 // TestCountSpansShown: where the count of pulls lays its work is said where its figures are
 // (review 17 F5: estimate.CountWork.Spans was computed and never shown): the terminal's and the
-// report's sentence names the spans, at most maxCountSpans of them, and summary.json lists them
-// in count_laid_spans. On the demo the spans named lay the trench the figure gives (their
+// report's sentence names them by the stretches of pathway drawn (estimate.CountWork.Where),
+// at most maxCountSpans of them, and summary.json lists the spans in count_laid_spans. On the demo the spans named lay the trench the figure gives (their
 // lengths add up to count_laid_trench_m).
 func TestCountSpansShown(t *testing.T) {
 	t.Parallel()
@@ -46,6 +47,7 @@ func TestCountSpansShown(t *testing.T) {
 		w := estimate.CountWork{TrenchM: 10, Cents: 100}
 		for i := range n {
 			w.Spans = append(w.Spans, estimate.CountSpan{Span: "S" + strconv.Itoa(i+1), Trench: true, LengthM: 10})
+			w.Where = append(w.Where, "pathway S"+strconv.Itoa(i+1))
 		}
 		return w
 	}
@@ -53,9 +55,9 @@ func TestCountSpansShown(t *testing.T) {
 		n    int
 		want string
 	}{
-		{1, " laid only for it (span S1), "},
-		{2, " laid only for it (2 spans: S1, S2), "},
-		{12, " laid only for it (12 spans: S1, S2, S3, S4, S5, S6, S7, S8, S9, S10 and 2 more), "},
+		{1, " laid only for it (on pathway S1), "},
+		{2, " laid only for it (2 stretches: pathway S1; pathway S2), "},
+		{12, " laid only for it (12 stretches: pathway S1; pathway S2; pathway S3; pathway S4; pathway S5; pathway S6; pathway S7; pathway S8; pathway S9; pathway S10 and 2 more), "},
 	} {
 		if got := CountText(spans(tc.n), 3, m, c); !strings.Contains(got, tc.want) {
 			t.Errorf("%d spans: %q lacks %q", tc.n, got, tc.want)
@@ -84,8 +86,11 @@ func TestCountSpansShown(t *testing.T) {
 	if err := PrintSummary(&term, r, WriteOptions{}); err != nil {
 		t.Fatal(err)
 	}
-	if !strings.Contains(term.String(), "laid only for it ("+strconv.Itoa(len(fc.Spans))+" spans: "+strings.Join(s.CountLaidSpans, ", ")+"), ") {
-		t.Errorf("terminal's count of pulls line does not name the spans %q:\n%s", s.CountLaidSpans, term.String())
+	// The sentence names the spans by the stretches of pathway drawn, as the bill does: on the
+	// demo S-TWR-E/1 and S-TWR-E/2, cut only where RSA's counted lateral might tap it, are
+	// the whole pathway S-TWR-E (review 20 F5).
+	if want := "laid only for it (2 stretches: pathway EA-3, 0.0–20.1 m; pathway S-TWR-E), "; !slices.Equal(fc.Where, r.Site.Net.Stretches(s.CountLaidSpans)) || !strings.Contains(term.String(), want) {
+		t.Errorf("terminal's count of pulls line does not name the stretches of %q (%q), want %q:\n%s", s.CountLaidSpans, fc.Where, want, term.String())
 	}
 	t.Logf("demo: %q, %.1f m of trench", s.CountLaidSpans, s.CountLaidTrenchM)
 }

@@ -424,7 +424,7 @@ func problem(s *site.Site, m *Model, links []site.Link, runs []site.NewRun) (*op
 		e := optimize.Edge{ID: sp.ID, From: int(u), To: int(v), LengthM: sp.LengthM, CableM: items.Wasted(d, sp.LengthM+loops), ReachM: sp.LengthM + loops,
 			PerCableCents: m.cents(items.AlongSpan(d, sp.Type, sp.LengthM)...) + m.cents(items.StructureLoops(loops)...) +
 				m.cents(items.AtJunctions(m.prices, pull+crews, entered+crews)...) + m.bidPer(media.BidBases{Structures: 1}, entered+crews),
-			Group: lay.spanGroup[i], Flags: lay.classBit[classOf(sp)]}
+			Group: lay.spanGroup[i], EndParted: lay.runGroup[i], Flags: lay.classBit[classOf(sp)]}
 		if sp.Type == geo.TypeDuct {
 			e.Flags |= flagDuct
 		}

@@ -3,7 +3,6 @@ package routing
 import (
 	"cmp"
 	"fmt"
-	"maps"
 	"math"
 	"runtime"
 	"slices"
@@ -123,12 +122,14 @@ type layout struct {
 	entrances  []entranceEdges // of buildings with several entrances, in building then entrance order
 	groups     int             // the shared-risk groups the entrance copies use, numbered after the spans'
 	lateral    bool            // some entrance edge carries a lateral
-	// groupOf numbers the spans' shared-risk groups (geo.Span.Group) from 1, in name order.
+	// groupOf numbers the shared-risk groups given on the campus (geo.Span.Group, where it is
+	// not the span's pathway id) from 1, in name order.
 	groupOf map[string]int
-	// spanGroup is each span's shared-risk group number (optimize.Edge.Group): groupOf of its
-	// group, or, for a pathway's own group parted at a one-entrance building's entrance
-	// (splitAtOnlyEntrances), the number of its side.
+	// spanGroup is each span's shared-risk group number (optimize.Edge.Group): groupOf of a
+	// group given on the campus, else the number of the span's run (runGroups), and runGroup
+	// marks the latter (optimize.Edge.EndParted).
 	spanGroup []int
+	runGroup  []bool
 	// classes are the span classes of the campus in a fixed order, and classBit each one's
 	// edge flag.
 	classes  []spanClass
@@ -169,7 +170,7 @@ func newLayout(s *site.Site) *layout {
 		groupOf: map[string]int{}}
 	var names []string
 	for _, sp := range net.Spans {
-		if _, ok := l.groupOf[sp.Group]; !ok && sp.Group != "" {
+		if _, ok := l.groupOf[sp.Group]; !ok && sp.Group != "" && sp.Group != sp.PathwayID {
 			l.groupOf[sp.Group] = 0
 			names = append(names, sp.Group)
 		}
@@ -353,7 +354,7 @@ func newLayout(s *site.Site) *layout {
 	}
 	l.groups = group - firstGroup
 	l.markSites(copies, turnAt)
-	l.splitAtOnlyEntrances(net, spansAt, jIndex, group)
+	l.runGroups(net, spansAt, group)
 	l.numberClasses(net)
 	// The entrance edges whose counted lateral taps a duct, by junction: they need the
 	// junction's handhole.
@@ -409,54 +410,25 @@ func (l *layout) markSites(copies [][]int, turnAt map[int]bool) {
 	}
 }
 
-// splitAtOnlyEntrances sets spanGroup: each span's group (groupOf), but a pathway's own
-// group (no group given: geo.Span.Group is its id) parted at the junction of each building's
-// only entrance (endEntry) that the pathway runs through, and at each tap of a counted
-// lateral (geo.ViaLateral) of a building with several ways in, each side a group of its own,
-// numbered from next in the order of the sides' first spans. Two legs of a diverse link that
-// leave such an entrance along the one duct in opposite directions share the entrance and
-// its lateral, which the plan names as the single point of failure (legsOf, reason code
-// SPOF), not the duct beyond it: the sides meet nowhere else. Two legs that leave a building
-// by two counted laterals onto one duct and go along it on either side of the taps share no
-// stretch of it either (tester 14's counted laterals to every pathway within reach: a
-// building whose other lateral meets a loop off the same street would otherwise get no pair). Parted only where the sides are
-// joined by no other way along the pathway (a pathway drawn as a loop stays one group); a
-// group given on the campus is never parted (it may hold ducts drawn side by side that meet
-// nowhere). A site fact: the same for every plan on the site.
-func (l *layout) splitAtOnlyEntrances(net *geo.Network, spansAt [][]int, jIndex map[string]int, next int) {
+// runGroups sets spanGroup and runGroup. A span with a shared-risk group given on the
+// campus keeps it (groupOf), never parted: the campus says those ducts fail together. A span
+// with none (geo.Span.Group is its pathway's id) is in the group of its run: the spans joined
+// end to end through junctions that are no branch point, whatever the pathways they were drawn
+// as, numbered from next in the order of the runs' first spans. A branch point (branchAt) is
+// a junction where a structure stands, where three or more span ends meet, where the pathway
+// enters a building (geo.Meeting.Buildings), or where the kind of pathway changes: one
+// trench or duct bank between two places where it can be reached or where ways part, as a
+// designer names a street's duct bank between its manholes and side streets (common
+// practice, no published source). A counted lateral's tap is none: it is a candidate that no
+// route may use, and until one does nothing is built there (the tap of a link's own end is
+// parted for that link alone, optimize.Edge.EndParted). So a run does not depend on other
+// buildings, on pathway ids, on feature order or on where a pathway was split at a vertex. A
+// site fact: the same for every plan on the site.
+func (l *layout) runGroups(net *geo.Network, spansAt [][]int, next int) {
 	l.spanGroup = make([]int, len(net.Spans))
-	for i, sp := range net.Spans {
-		l.spanGroup[i] = l.groupOf[sp.Group]
-	}
-	cut := map[string]bool{} // junctions of only entrances, and taps of counted laterals
-	for _, e := range l.endEntry {
-		cut[e.Junction] = true
-	}
-	for _, en := range l.entrances {
-		if en.entry.Via == geo.ViaLateral {
-			cut[en.entry.Junction] = true
-		}
-	}
+	l.runGroup = make([]bool, len(net.Spans))
 	own := func(i int) bool { return net.Spans[i].Group == net.Spans[i].PathwayID }
-	parted := map[string]bool{} // pathways with two or more of their spans at a cut
-	for _, j := range slices.Sorted(maps.Keys(cut)) {
-		n := map[string]int{}
-		for _, i := range spansAt[jIndex[j]] {
-			if own(i) {
-				n[net.Spans[i].PathwayID]++
-			}
-		}
-		for p, k := range n {
-			if k >= 2 {
-				parted[p] = true
-			}
-		}
-	}
-	if len(parted) == 0 {
-		return
-	}
-	// Union-find over each parted pathway's spans, joined at every junction but a cut.
-	up := make([]int, len(net.Spans))
+	up := make([]int, len(net.Spans)) // union-find over the spans of no given group
 	for i := range up {
 		up[i] = i
 	}
@@ -468,46 +440,36 @@ func (l *layout) splitAtOnlyEntrances(net *geo.Network, spansAt [][]int, jIndex 
 		return i
 	}
 	for j, at := range spansAt {
-		if cut[net.Junctions[j].ID] {
+		if len(at) != 2 || !own(at[0]) || !own(at[1]) || branchAt(net, j, at) {
 			continue
 		}
-		first := map[string]int{}
-		for _, i := range at {
-			p := net.Spans[i].PathwayID
-			if !parted[p] || !own(i) {
-				continue
-			}
-			if f, ok := first[p]; ok {
-				if a, b := find(f), find(i); a != b {
-					up[max(a, b)] = min(a, b)
-				}
-			} else {
-				first[p] = i
-			}
+		if a, b := find(at[0]), find(at[1]); a != b {
+			up[max(a, b)] = min(a, b)
 		}
 	}
-	// The side holding a pathway's first span keeps the group; each other side, in the order
-	// of its first span, takes the next number.
-	keeps := map[string]int{} // pathway → the root of its first span's side
-	side := map[int]int{}     // root → group
+	run := map[int]int{} // root → group
 	for i, sp := range net.Spans {
-		if !parted[sp.PathwayID] || !own(i) {
+		if !own(i) {
+			l.spanGroup[i] = l.groupOf[sp.Group]
 			continue
 		}
 		r := find(i)
-		k, ok := keeps[sp.PathwayID]
-		switch {
-		case !ok:
-			keeps[sp.PathwayID] = r
-		case k == r:
-		default:
-			if _, ok := side[r]; !ok {
-				side[r] = next
-				next++
-			}
-			l.spanGroup[i] = side[r]
+		if _, ok := run[r]; !ok {
+			run[r] = next
+			next++
 		}
+		l.spanGroup[i], l.runGroup[i] = run[r], true
 	}
+}
+
+// branchAt reports whether junction j, where spans at end (a span ending there twice is
+// listed once and counts twice), parts a run of duct: see runGroups.
+func branchAt(net *geo.Network, j int, at []int) bool {
+	m := net.Meetings[j]
+	if m.Structure || m.Degree >= 3 || len(m.Buildings) > 0 {
+		return true
+	}
+	return len(at) == 2 && net.Spans[at[0]].Type != net.Spans[at[1]].Type
 }
 
 // markJoin records node n as a run, with a proposed span in it, where new pathway joins the

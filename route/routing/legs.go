@@ -531,8 +531,13 @@ func singlePoint(s *site.Site, lay *layout, prob *optimize.Problem, sp *optimize
 	return what
 }
 
-// groupName names shared-risk group g: a span's group, or the entrance whose edges share it.
+// groupName names shared-risk group g: a group given on the campus by its name; a run of
+// duct (runGroups) by its pathways and the junctions at its ends ("S between H1 and H5",
+// "S1 and S2 between H1 and H5"; a run closed on itself has no ends); or the entrance whose
+// edges share it.
 func groupName(s *site.Site, lay *layout, prob *optimize.Problem, g int) string {
+	var pathways []string
+	ends := map[string]int{} // junction → span ends of the run there
 	for i, e := range prob.Edges {
 		if e.Group != g {
 			continue
@@ -540,9 +545,35 @@ func groupName(s *site.Site, lay *layout, prob *optimize.Problem, g int) string 
 		if x, extra := lay.isExtra(len(s.Net.Spans), i); extra {
 			return "entrance " + x.entry.ID + " of building " + x.building
 		}
-		return s.Net.Spans[i].Group
+		sp := &s.Net.Spans[i]
+		if !lay.runGroup[i] {
+			return sp.Group
+		}
+		if !slices.Contains(pathways, sp.PathwayID) {
+			pathways = append(pathways, sp.PathwayID)
+		}
+		ends[sp.From]++
+		ends[sp.To]++
 	}
-	return strconv.Itoa(g)
+	if len(pathways) == 0 {
+		return strconv.Itoa(g)
+	}
+	slices.Sort(pathways)
+	name := strings.Join(pathways, " and ")
+	if len(pathways) > 2 {
+		name = strings.Join(pathways[:len(pathways)-1], ", ") + " and " + pathways[len(pathways)-1]
+	}
+	var at []string
+	for j, n := range ends {
+		if n == 1 {
+			at = append(at, j)
+		}
+	}
+	if len(at) == 2 {
+		slices.Sort(at)
+		name += " between " + at[0] + " and " + at[1]
+	}
+	return name
 }
 
 // SegmentFill is the duct fill of one span that carries cable.

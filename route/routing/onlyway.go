@@ -153,7 +153,7 @@ func onlyWayIn(s *site.Site, m *Model, lay *layout, prob *optimize.Problem, l *s
 	for _, b := range []string{l.To, l.From} {
 		if w, ok := stemOf(lay, prob, b); ok && w.holds(prob, sp) {
 			then := ""
-			if sp.Kind == optimize.PointGroup { // a group given on the campus, never parted there (splitAtOnlyEntrances)
+			if sp.Kind == optimize.PointGroup { // a group given on the campus, never parted at a link's own end (runGroups)
 				then = ", and leave it along shared-risk group " + groupName(s, lay, prob, sp.Index)
 			}
 			return fmt.Sprintf("every route must use %s%s, a single point of failure; %s",
