@@ -2315,7 +2315,7 @@ func (b *builder) warnings() []Warning {
 	}
 	var out []Warning
 	for _, w := range b.warns {
-		out = append(out, Warning{File: w.src.File, Feature: w.src.Short(w.id), Message: w.msg, UnitSlip: slip[w]})
+		out = append(out, Warning{File: w.src.File, Feature: w.src.Short(w.id), Message: w.msg, Slip: slip[w]})
 	}
 	return out
 }

@@ -168,7 +168,7 @@ type Campus struct {
 	// differs from its id property, two footprints that overlap); Build gives them among
 	// the Network's Warnings.
 	warns []warnRec
-	// slips are those of warns on a number that reads as typed in another unit
-	// (unitSlipWarnings): Warning.UnitSlip.
+	// slips are those of warns on a value the plan is made with that the campus likely did
+	// not mean (unitSlipWarnings, nearFindings): Warning.Slip.
 	slips []warnRec
 }

@@ -281,7 +281,7 @@ type loader struct {
 	c     Campus
 	errs  input.Problems
 	warns []warnRec // what reading found that is no problem (Campus.warns)
-	slips []warnRec // those of warns on a unit slip (Campus.slips)
+	slips []warnRec // those of warns on a value likely not meant (Campus.slips)
 	ids   map[string]idUse
 	// idDiffers are the features whose id member differs from their id property, in the
 	// order read (idWarnings).

@@ -342,6 +342,9 @@ func (l *loader) nearFindings() {
 		default:
 			l.warn(u.src, u.id, fmt.Sprintf("property %q is not read%s: did you mean %q? The %s is planned with %s (property names are matched exactly)",
 				u.key, more, u.known, u.kind, blankDefaultText(u.kind, u.known)))
+			// The plan takes a default the campus likely did not mean: its terminal shows it
+			// (Warning.Slip; verify 18 V9).
+			l.slips = append(l.slips, l.warns[len(l.warns)-1])
 		}
 	}
 }

@@ -129,10 +129,12 @@ type Warning struct {
 	File    string
 	Feature string // "#index (id)" of the feature concerned, or "table name fid n (id)" (Source.Short)
 	Message string
-	// UnitSlip marks a number that reads as typed in another unit (a duct_mm below any
-	// conduit's inside, a riser_m above any building's): the plan is made with it as given, so
-	// a plan's terminal prints it in full (route.Result.Shown).
-	UnitSlip bool
+	// Slip marks a value the plan is made with that the campus likely did not mean: a number
+	// that reads as typed in another unit (a duct_mm below any conduit's inside, a riser_m
+	// above any building's), or a property not read for a slip in its name whose default is
+	// planned instead ("riser" for riser_m: a riser of 15 m). A plan's terminal prints it in
+	// full (route.Result.Shown), as written: it speaks of the campus's keys in their units.
+	Slip bool
 }
 
 // Network is the noded pathway network: junctions and spans sorted by ID, one Access per

@@ -51,7 +51,7 @@ func TestLengthInOtherUnit(t *testing.T) {
 	check("riser_ft", p, `c.geojson: feature #0 "B": property "riser_ft": a length in feet, not read: riser_ft 24.6 is 7.498 m: write riser_m: 7.498 (1 ft = 0.3048 m exactly); without riser_m the building is planned with a riser of 15 m`)
 	// NIST SP 811 B.8: 4 in × 25.4 = 101.6 mm; letter case and separators as a GIS writes them.
 	p, _ = read(`"properties":{"id":"P","DUCT_IN":4},` + gisLine)
-	check("DUCT_IN", p, `c.geojson: feature #0 "P": property "DUCT_IN": a length in inches, not read: DUCT_IN 4 is 101.6 mm: write duct_mm: 101.6 (1 in = 25.4 mm exactly); without duct_mm the pathway is planned with ducts of 100 mm`)
+	check("DUCT_IN", p, `c.geojson: feature #0 "P": property "DUCT_IN": a length in inches, not read: DUCT_IN 4 is 101.6 mm: write duct_mm: 101.6 (1 in = 25.4 mm exactly); without duct_mm the pathway is planned with ducts of 101.5 mm`) // the default, geo.DefaultDuctMM
 	// NIST SP 811 B.8: 80 ft = 24.384 m; a number written as text (an export's text column).
 	p, _ = read(`"properties":{"id":"B","Riser Feet":"80"},` + sq(0))
 	check("Riser Feet", p, `c.geojson: feature #0 "B": property "Riser Feet": a length in feet, not read: Riser Feet 80 is 24.384 m: write riser_m: 24.384 (1 ft = 0.3048 m exactly); without riser_m the building is planned with a riser of 15 m`)

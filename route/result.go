@@ -31,9 +31,9 @@ type Result struct {
 	Warnings []string
 	// Shown are the warnings, among Warnings, that the plan's terminal prints in full, the
 	// others being counted there: those that say a number the plan is made with may be wrong
-	// by a unit or a few per cent, which can turn what the plan serves and how many cables a
-	// duct takes (tester 15 F4): the campus's unit slips (geo.Warning.UnitSlip, as check
-	// prints them) and the duct sizes whose jam verdict turns on their inside diameter
+	// by a unit or a few per cent, or is a default taken for a property spelt wrong, which can
+	// turn what the plan serves and how many cables a duct takes (tester 15 F4, verify 18 V9):
+	// the campus's slips (geo.Warning.Slip, as check prints them) and the duct sizes whose jam verdict turns on their inside diameter
 	// (estimate.Estimate.JamWarnings). They speak of the campus's own figures in the units of
 	// its keys ("duct_mm" is 4 mm; 100 mm reads as a nominal size), so every output gives them
 	// as written, in either units.
@@ -196,7 +196,7 @@ func SolveFrom(ctx context.Context, s *site.Site, p *plan.Plan, eng *media.Engin
 	r.ProblemSHA256 = rt.ProblemSHA256
 	for _, w := range s.Net.Warnings {
 		r.Warnings = append(r.Warnings, w.File+": "+w.Feature+": "+w.Message)
-		if w.UnitSlip {
+		if w.Slip {
 			r.Shown = append(r.Shown, r.Warnings[len(r.Warnings)-1])
 		}
 	}

@@ -1570,7 +1570,7 @@ func PrintCheck(w io.Writer, r site.CheckReport, opt WriteOptions) error {
 	}
 	fmt.Fprintf(w, "warnings    %d\n", len(r.Warnings))
 	for _, m := range r.Warnings {
-		if !slices.Contains(r.UnitSlips, m) { // those as written: the campus's figures in its keys' units
+		if !slices.Contains(r.Slips, m) { // those as written: the campus's figures in its keys' units
 			m = InUnits(opt, m)
 		}
 		fmt.Fprintf(w, "  warning: %s\n", t(m))

@@ -56,10 +56,12 @@ type CheckReport struct {
 	// NearMisses lists the pathway ends that just miss a pathway or footprint (geo.NearMiss).
 	NearMisses []string
 	Warnings   []string
-	// UnitSlips are those of Warnings on a number that reads as typed in another unit
-	// (geo.Warning.UnitSlip): they speak of the campus's figures in its keys' units ("duct_mm"
-	// is 4 mm; inches? 4 in is 101.6 mm), so they are printed as written, in either units.
-	UnitSlips []string
+	// Slips are those of Warnings on a value the plan would be made with that the campus
+	// likely did not mean (geo.Warning.Slip: a number typed in another unit, a property slip
+	// whose default is planned): they speak of the campus's figures in its keys' units
+	// ("duct_mm" is 4 mm; inches? 4 in is 101.6 mm), so they are printed as written, in
+	// either units.
+	Slips []string
 }
 
 // PathwayTally counts pathways of one type and status and their length in metres.
@@ -129,8 +131,8 @@ func (s *Site) Check(hub string) CheckReport {
 	}
 	for _, w := range s.Net.Warnings {
 		r.Warnings = append(r.Warnings, w.File+": "+w.Feature+": "+w.Message)
-		if w.UnitSlip {
-			r.UnitSlips = append(r.UnitSlips, r.Warnings[len(r.Warnings)-1])
+		if w.Slip {
+			r.Slips = append(r.Slips, r.Warnings[len(r.Warnings)-1])
 		}
 	}
 	for _, u := range s.Net.Unjoined {
