@@ -31,7 +31,7 @@ func (sv *solver) crossingAvoided(d int) (cents int64, alt choice) {
 	}
 	sites := sv.siteOf
 	sv.siteOf = nil // the search as if no place were shared: sharedSite answers 0
-	legs, ok := sv.groupPair(sv.from[d], sv.to[d], w, treeH(sv.bound(sv.to[d], sv.optProf[d][c.opt]).t), chosenW)
+	legs, ok := sv.groupPair(sv.from[d], sv.to[d], w, treeH(sv.bound(sv.to[d], sv.optProf[d][c.opt]).t), chosenW, nil)
 	sv.siteOf = sites
 	if !ok || sv.sharedSite(legs[:]) == 0 {
 		return 0, alt

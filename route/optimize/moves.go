@@ -704,10 +704,16 @@ func (sv *solver) estimate(d int) int64 {
 	cur, barred := sv.weigh(d, c)
 	cur += int64(barred) * (math.MaxInt64 / 8) // forbidden by the move: leaving it is a must
 	below := cur                               // a route that saves nothing is not wanted
+	useful := int64(math.MaxInt64)
 	if dm.Diverse && (len(c.legs) < 2 || sv.sharedSite(c.legs) != 0) {
 		below = math.MaxInt64 // bestBelow with a limit looks for pairs only, or cheaper ones
+		if len(c.legs) == 2 && !sv.length && sv.siteBoundAll(d) {
+			// Every pair of d passes a place (siteBound), as its own does: only a pair
+			// weighing less than cur saves anything, and no other answer does.
+			useful = cur
+		}
 	}
-	nb := sv.bestBelow(d, below)
+	nb := sv.bestOf(d, below, useful)
 	defer sv.endSelf() // end the in-place view
 	if nb.opt < 0 || (dm.Diverse && len(nb.legs) < len(c.legs)) {
 		return 0

@@ -52,9 +52,10 @@ func (sv *solver) pair(d, o int, mix bool, below int64) (legs [2][]Hop, weight i
 	}
 	w := sv.weightFor(d, o)
 	hc := treeH(sv.bound(t, prof).t)
+	bound := func() bool { return sv.siteBound(d, o) }
 	legsAtSite := false // legs share a place (Problem.Sites): any pair that does not wins
 	try := func(wt func(e int32) (int64, bool), h heuristic[int64], below int64) (ratio float64) {
-		cand, found := sv.groupPair(s, t, wt, h, below)
+		cand, found := sv.groupPair(s, t, wt, h, below, bound)
 		if !found {
 			return 0
 		}
@@ -211,7 +212,10 @@ func (sv *solver) block(es []int32) {
 // groupPair returns the cheapest pair under wt that shares no edge, interior node or group.
 // h is a consistent lower bound of wt to t, or nil. It returns none when the cheapest pair
 // that may share groups weighs below or more: every pair it could find weighs as much.
-func (sv *solver) groupPair(s, t int, wt func(e int32) (int64, bool), h heuristic[int64], below int64) ([2][]Hop, bool) {
+// bound, when not nil, reports whether no pair free of places exists (siteBound); it is
+// asked only of a cheapest pair that shares no group but passes a place, which is then the
+// answer.
+func (sv *solver) groupPair(s, t int, wt func(e int32) (int64, bool), h heuristic[int64], below int64, bound func() bool) ([2][]Hop, bool) {
 	blocked := func(e int32) (int64, bool) {
 		if sv.blk[e] == sv.blkSt {
 			return 0, false
@@ -223,7 +227,10 @@ func (sv *solver) groupPair(s, t int, wt func(e int32) (int64, bool), h heuristi
 	if !res.ok || res.weight >= below {
 		return [2][]Hop{}, false
 	}
-	if sv.sharedGroup(res.legs) == 0 && sv.sharedSite(res.legs[:]) == 0 {
+	if sv.sharedGroup(res.legs) == 0 && (sv.sharedSite(res.legs[:]) == 0 || bound != nil && bound()) {
+		// It shares nothing; or it shares only a place, and no pair free of places exists,
+		// so every candidate below would pass a place too and none weighs less than this
+		// cheapest pair of all (Suurballe): the search below would keep this one.
 		return res.legs, true
 	}
 	// The cheapest pair that shares nothing, and the cheapest that shares only a place

@@ -282,6 +282,12 @@ type solver struct {
 	// until joinDual takes it from waitDual, which waits for the ascent running beside.
 	dual     *dualBound
 	waitDual func() *dualBound
+	// Pairs bound to a place (sitebound.go): per demand × exclusion class, 0 not known, 1 a
+	// pair that passes no place twice may exist, 2 none can; placeFlow's scratch; for the
+	// tests, noSiteBound proves nothing, so that the searches run as without it.
+	siteless    []uint8
+	sfl         placeFlowScratch
+	noSiteBound bool
 }
 
 func newSolver(p *Problem, opt Settings) *solver {
@@ -765,13 +771,21 @@ func (sv *solver) best(d int) choice { return sv.bestBelow(d, math.MaxInt64) }
 // that saves nothing. For a diverse demand a limit means a pair below it: the single route
 // best falls back on when no pair exists is not looked for (it would always weigh less than
 // the pair it is compared with; review 13).
-func (sv *solver) bestBelow(d int, below int64) choice {
+func (sv *solver) bestBelow(d int, below int64) choice { return sv.bestOf(d, below, math.MaxInt64) }
+
+// bestOf is bestBelow for a caller to which, besides, only a pair whose objective is under
+// useful matters, and which takes any other answer (another pair, none, a single route) as
+// no better than what it has: options whose every pair reaches useful are not searched, and
+// no single route is looked for when no pair is found (estimate, for a demand whose pair
+// passes a place). With useful math.MaxInt64 it is bestBelow.
+func (sv *solver) bestOf(d int, below, useful int64) choice {
 	if sv.invalid[d] != "" {
 		return choice{opt: -1}
 	}
 	dm := &sv.p.Demands[d]
 	type lbo struct {
 		lb  int64
+		lb0 int64 // lb as first found, from the lower-bound tree alone
 		opt int
 	}
 	var buf [8]lbo
@@ -789,7 +803,7 @@ func (sv *solver) bestBelow(d int, below int64) choice {
 		if !sv.length {
 			lb += sv.optionCents(d, o, legs)
 		}
-		order = append(order, lbo{lb, o})
+		order = append(order, lbo{lb, lb, o})
 	}
 	slices.SortFunc(order, func(a, b lbo) int {
 		if a.lb != b.lb {
@@ -829,8 +843,29 @@ func (sv *solver) bestBelow(d int, below int64) choice {
 		}
 		return bestCh
 	}
+	// bound: whether no pair of d passes no place twice (siteBound, every option): then a
+	// best pair that passes one is beaten by weight alone, as one that does not is. Asked
+	// only once a pair passing a place is the best found.
+	bound := int8(0)
+	boundPair := func() bool {
+		if bound == 0 {
+			bound = 1
+			if dm.Diverse && sv.siteBoundAll(d) {
+				bound = 2
+			}
+		}
+		return bound == 2
+	}
 	pruned := func(x lbo) bool {
-		return !sv.length && (x.lb >= below || (!bestC.atSite && (x.lb > bestC.obj || (x.lb == bestC.obj && x.opt > bestC.opt))))
+		if sv.length {
+			return false
+		}
+		if x.lb >= below || x.lb0 >= useful || (!bestC.atSite && (x.lb > bestC.obj || (x.lb == bestC.obj && x.opt > bestC.opt))) {
+			return true
+		}
+		// Against a best pair that passes a place, only an option whose every pair weighs
+		// more (by the tree's bound: lb0) is out, ties kept (cand.less breaks them on metres).
+		return bestC.atSite && bestC.obj < math.MaxInt64 && x.lb0 > bestC.obj && boundPair()
 	}
 	// pairBelow is the weight a pair of option o must stay under to be wanted.
 	pairBelow := func(o int) int64 {
@@ -866,7 +901,7 @@ func (sv *solver) bestBelow(d int, below int64) choice {
 				consider(x.opt, legs, 2, w)
 			}
 		}
-		if bestCh.opt >= 0 || below != math.MaxInt64 {
+		if bestCh.opt >= 0 || below != math.MaxInt64 || useful != math.MaxInt64 {
 			return done()
 		}
 		for i := range order { // single-path bounds are half the pair bounds
