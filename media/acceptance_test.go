@@ -148,6 +148,11 @@ func TestMarginBasis(t *testing.T) {
 	low := newEngine(t, c, nil, EngineOptions{PairLossDB: 0.3, SpliceLossDB: 0.1})
 	at := newEngine(t, c, nil, EngineOptions{PairLossDB: 0.75})
 	extra := newEngine(t, c, nil, EngineOptions{Margins: &MarginPolicy{MultimodeDB: 0.2, RepairSplicesPerKm: 0.5}})
+	// A catalog of one's own with other maxima: its words name the catalog's, not TIA's
+	// (review 21 F7); 1.0 dB a pair is invented for the test.
+	own := DefaultCatalog()
+	own.MatedPairDB = 1.0
+	mine := newEngine(t, own, nil, EngineOptions{})
 	os2, om3, cat6a := c.Medium("os2"), c.Medium("om3"), c.Medium("cat6a")
 	for _, tc := range []struct {
 		name                   string
@@ -169,6 +174,7 @@ func TestMarginBasis(t *testing.T) {
 		{"plan floor above the policy", floor, os2, 2, 2, 1, 1, "the plan's loss_margin_db"},
 		{"policy above the plan floor", floor, os2, 2, 2, 2, 1.1, "2 mated pairs × 0.25 dB to the TIA-568.3-D maxima + 2 repair splices × 0.3 dB"},
 		{"copper", e, cat6a, 2, 0, 0, 0, ""},
+		{"the catalog's own maxima", mine, own.Medium("om3"), 2, 2, 0, 1, "2 mated pairs × 0.5 dB to the catalog's maxima (connections.mated_pair_db, splice_db)"},
 	} {
 		if got := tc.e.marginBasis(tc.m, tc.pairs, tc.splices, tc.repair); got != tc.want {
 			t.Errorf("%s: got %q, want %q", tc.name, got, tc.want)

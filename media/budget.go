@@ -71,7 +71,15 @@ type marginParts struct {
 	extraDB                float64 // the catalog's margin of the class (margins.extra_multimode_db, extra_singlemode_db)
 	class                  string  // "multimode" or "single-mode"
 	floorDB                float64 // the plan's loss_margin_db
+	tia                    bool    // the catalog's maxima are ANSI/TIA-568.3-D's (tiaPairDB, tiaSpliceDB)
 }
+
+// ANSI/TIA-568.3-D's maxima for a mated connector pair and a splice (from memory; the embedded
+// catalog's connections): which the margin's words name when a catalog keeps them.
+const (
+	tiaPairDB   = 0.75
+	tiaSpliceDB = 0.3
+)
 
 // marginOf is the margin parts of a fibre channel on medium m with pairs mated pairs, splices
 // splices and repair repair splices; ok is false for copper, which keeps none.
@@ -84,7 +92,8 @@ func (e *Engine) marginOf(m *Medium, pairs, splices, repair int) (marginParts, b
 		pairGapDB:   max(0, e.field.PairDB-e.design.PairDB),
 		spliceGapDB: max(0, e.field.SpliceDB-e.design.SpliceDB),
 		repairDB:    max(e.design.SpliceDB, e.field.SpliceDB),
-		extraDB:     extra, class: class, floorDB: e.opt.LossMarginDB}, true
+		extraDB:     extra, class: class, floorDB: e.opt.LossMarginDB,
+		tia: e.field.PairDB == tiaPairDB && e.field.SpliceDB == tiaSpliceDB}, true
 }
 
 // policyDB is the margin the parts ask for without the plan's floor, in dB.
@@ -115,8 +124,12 @@ func (p marginParts) basis() string {
 	if p.splices > 0 && p.spliceGapDB > 0 {
 		gaps = append(gaps, fmt.Sprintf("%s × %s dB", count(p.splices, "splice", "splices"), formatNum(roundDB(p.spliceGapDB))))
 	}
+	maxima, maximum := "the TIA-568.3-D maxima", "its TIA-568.3-D maximum"
+	if !p.tia { // a catalog of one's own (review 21 F7)
+		maxima, maximum = "the catalog's maxima (connections.mated_pair_db, splice_db)", "its maximum in the catalog (connections.mated_pair_db, splice_db)"
+	}
 	if len(gaps) > 0 {
-		parts = append(parts, strings.Join(gaps, " + ")+" to the TIA-568.3-D maxima")
+		parts = append(parts, strings.Join(gaps, " + ")+" to "+maxima)
 	}
 	if p.repair > 0 && p.repairDB > 0 {
 		parts = append(parts, fmt.Sprintf("%s × %s dB", count(p.repair, "repair splice", "repair splices"), formatNum(roundDB(p.repairDB))))
@@ -125,7 +138,7 @@ func (p marginParts) basis() string {
 		parts = append(parts, fmt.Sprintf("the catalog's %s %s dB", p.class, formatNum(p.extraDB)))
 	}
 	if len(parts) == 0 {
-		return "none: no part is designed below its TIA-568.3-D maximum"
+		return "none: no part is designed below " + maximum
 	}
 	return strings.Join(parts, " + ")
 }
