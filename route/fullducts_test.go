@@ -36,7 +36,7 @@ func fullOnT(t *testing.T, r *route.Result) int {
 			continue
 		}
 		n++
-		if !strings.Contains(l.Reason, "no room on span T (1 spare duct, 3 cables of this plan in them), where this plan may add no duct") {
+		if !strings.Contains(l.Reason, "no room on span T (1 spare duct, 3 cables of this plan in them") || !strings.Contains(l.Reason, "), where this plan may add no duct") {
 			t.Errorf("%s/%s: reason %q does not name span T's full duct", l.Link.ID, l.Name, l.Reason)
 		}
 		if cu := strings.Index(l.Reason, "cat6a"); cu >= 0 && cu < strings.Index(l.Reason, "os2") {
@@ -75,6 +75,11 @@ func TestMethodNoneAddsNoDuct(t *testing.T) {
 		t.Fatal(err)
 	}
 	n := fullOnT(t, r)
+	for _, l := range r.Legs {
+		if !l.Feasible && !strings.Contains(l.Reason, `span T (1 spare duct, 3 cables of this plan in them; its pathway's method is "none": nothing may be built beside it)`) {
+			t.Errorf("method none: %s/%s: reason %q does not say why no duct is added (review 21 F8)", l.Link.ID, l.Name, l.Reason)
+		}
+	}
 	if added := testplan.BOMQty(r.Estimate.BOM, "added duct"); n != 2 || added != 0 {
 		t.Errorf("method none: %d legs infeasible and %v m of duct added, want 2 and none", n, added)
 	}

@@ -207,7 +207,7 @@ func (lay *layout) explain(in optimize.Infeasible, l *site.Link, prob *optimize.
 			if prob != nil && in.Demand >= 0 && in.Demand < len(prob.Demands) && f.Option >= 0 && f.Option < len(prob.Demands[in.Demand].Options) {
 				od = prob.Demands[in.Demand].Options[f.Option].CableODMM
 			}
-			msgs[i] = f.Name + ": every route within reach crosses ducts too full for the cable" + ductsFull(prob, f.Full, od)
+			msgs[i] = f.Name + ": every route within reach crosses ducts too full for the cable" + ductsFull(prob, f.Full, od, lay.heldSpans)
 		}
 	}
 	order := make([]int, len(msgs))
@@ -228,29 +228,34 @@ func (lay *layout) explain(in optimize.Infeasible, l *site.Link, prob *optimize.
 // (tester 12 F5). A cable no empty duct takes is named with its diameter, odMM (what the ducts
 // take: the cable, or its innerduct; 0 unknown), and the ducts' inside diameter (wideWords). ""
 // when there are none to name (or no problem to name them by).
-func ductsFull(prob *optimize.Problem, full []optimize.FullEdge, odMM float64) string {
+// held are the spans nothing may be built beside (layout.heldSpans): their name says so.
+func ductsFull(prob *optimize.Problem, full []optimize.FullEdge, odMM float64, held map[string]bool) string {
 	if prob == nil || len(full) == 0 {
 		return ""
 	}
-	var held []string
+	var noRoom []string
 	var wide []int
 	for _, f := range full {
 		ed := &prob.Edges[f.Edge]
+		none := ""
+		if held[ed.ID] {
+			none = fmt.Sprintf("; its pathway's method is %q: nothing may be built beside it", geo.MethodNone)
+		}
 		switch {
 		case ed.MayAddDucts():
 			wide = append(wide, f.Edge)
 		case f.Ducts == 0:
-			held = append(held, ed.ID+" (no spare duct)")
+			noRoom = append(noRoom, ed.ID+" (no spare duct"+none+")")
 		default:
-			held = append(held, fmt.Sprintf("%s (%s, %s of this plan in them)", ed.ID,
-				plural(f.Ducts, "spare duct", "spare ducts"), plural(f.Cables, "cable", "cables")))
+			noRoom = append(noRoom, fmt.Sprintf("%s (%s, %s of this plan in them%s)", ed.ID,
+				plural(f.Ducts, "spare duct", "spare ducts"), plural(f.Cables, "cable", "cables"), none))
 		}
 	}
 	var parts []string
-	if len(held) > 0 {
-		spans := "spans " + strings.Join(held, ", ")
-		if len(held) == 1 {
-			spans = "span " + held[0]
+	if len(noRoom) > 0 {
+		spans := "spans " + strings.Join(noRoom, ", ")
+		if len(noRoom) == 1 {
+			spans = "span " + noRoom[0]
 		}
 		parts = append(parts, "no room on "+spans+", where this plan may add no duct (NFPA 70 Chapter 9 fill)")
 	}

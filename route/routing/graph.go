@@ -101,6 +101,9 @@ type layout struct {
 	end       map[string]int
 	endEntry  map[string]geo.Entry // a building ending at one entrance: that entrance
 	noTransit []bool
+	// heldSpans are the spans of pathways nothing may be built beside (geo.MethodNone), by id:
+	// a reason that finds them full says why no duct is added (ductsFull).
+	heldSpans map[string]bool
 	// site marks, by node, the junctions split for turns (runs of duct crossing or meeting
 	// with no structure, an entrance's or not): the nodes of one junction share a number > 0,
 	// one place for a diverse link's legs (optimize.Problem.Sites), numbered in junction
@@ -170,6 +173,12 @@ func newLayout(s *site.Site) *layout {
 		groupOf: map[string]int{}}
 	var names []string
 	for _, sp := range net.Spans {
+		if sp.Method == geo.MethodNone {
+			if l.heldSpans == nil {
+				l.heldSpans = map[string]bool{}
+			}
+			l.heldSpans[sp.ID] = true
+		}
 		if _, ok := l.groupOf[sp.Group]; !ok && sp.Group != "" && sp.Group != sp.PathwayID {
 			l.groupOf[sp.Group] = 0
 			names = append(names, sp.Group)
