@@ -104,6 +104,10 @@ type layout struct {
 	// heldSpans are the spans of pathways nothing may be built beside (geo.MethodNone), by id:
 	// a reason that finds them full says why no duct is added (ductsFull).
 	heldSpans map[string]bool
+	// given reports whether a span's shared-risk group is the campus's (geo.Span.Group given,
+	// or its pathway's id named as a group by another pathway), not its pathway's own by
+	// default, which runGroups parts into runs.
+	given func(sp *geo.Span) bool
 	// site marks, by node, the junctions split for turns (runs of duct crossing or meeting
 	// with no structure, an entrance's or not): the nodes of one junction share a number > 0,
 	// one place for a diverse link's legs (optimize.Problem.Sites), numbered in junction
@@ -171,15 +175,26 @@ func newLayout(s *site.Site) *layout {
 	net := s.Net
 	l := &layout{end: map[string]int{}, endEntry: map[string]geo.Entry{}, spanEnds: make([][2]int, len(net.Spans)), carriedEnd: make([][2]bool, len(net.Spans)),
 		groupOf: map[string]int{}}
-	var names []string
+	// A group is given (not a pathway's own by default, which runGroups parts at branch
+	// points) when it is not the pathway's id, or when another pathway gives that id as its
+	// group: naming a duct bank after one of its pathways declares them one risk (review 22 F1).
+	named := map[string]bool{}
 	for _, sp := range net.Spans {
+		if sp.Group != sp.PathwayID {
+			named[sp.Group] = true
+		}
+	}
+	l.given = func(sp *geo.Span) bool { return sp.Group != sp.PathwayID || named[sp.Group] }
+	var names []string
+	for i := range net.Spans {
+		sp := &net.Spans[i]
 		if sp.Method == geo.MethodNone {
 			if l.heldSpans == nil {
 				l.heldSpans = map[string]bool{}
 			}
 			l.heldSpans[sp.ID] = true
 		}
-		if _, ok := l.groupOf[sp.Group]; !ok && sp.Group != "" && sp.Group != sp.PathwayID {
+		if _, ok := l.groupOf[sp.Group]; !ok && sp.Group != "" && l.given(sp) {
 			l.groupOf[sp.Group] = 0
 			names = append(names, sp.Group)
 		}
@@ -436,7 +451,7 @@ func (l *layout) markSites(copies [][]int, turnAt map[int]bool) {
 func (l *layout) runGroups(net *geo.Network, spansAt [][]int, next int) {
 	l.spanGroup = make([]int, len(net.Spans))
 	l.runGroup = make([]bool, len(net.Spans))
-	own := func(i int) bool { return net.Spans[i].Group == net.Spans[i].PathwayID }
+	own := func(i int) bool { return !l.given(&net.Spans[i]) }
 	up := make([]int, len(net.Spans)) // union-find over the spans of no given group
 	for i := range up {
 		up[i] = i
