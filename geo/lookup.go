@@ -82,7 +82,7 @@ func (n *Network) AccessOf(building string) (Access, bool) {
 // counted lateral might tap it, used or not, cuts a span in two): the spans of one pathway
 // that follow one another along it (Span.ID's piece order, each meeting the next at a
 // junction) are one stretch, named "pathway P" when it is the whole pathway, else "pathway P,
-// A–B m", A and B the metres along the pathway's spans from its first (its west or south end,
+// A m to B m", A and B the metres along the pathway's spans from its first (its west or south end,
 // pieceOrder), to 0.1 m. An ID that is no span, or a span Build did not name, is named "span
 // ID". The names are distinct and sorted.
 func (n *Network) Stretches(ids []string) []string {
@@ -129,7 +129,7 @@ func (n *Network) Stretches(ids []string) []string {
 			if start == 0 && end == len(ps) {
 				out = append(out, "pathway "+pw)
 			} else {
-				out = append(out, fmt.Sprintf("pathway %s, %.1f–%.1f m", pw, startM, atM))
+				out = append(out, fmt.Sprintf("pathway %s, %.1f m to %.1f m", pw, startM, atM))
 			}
 			start = -1
 		}

@@ -36,7 +36,7 @@ func TestStretchesCandidateTap(t *testing.T) {
 		want := []string{"pathway D", "span no-such-span"}
 		if west {
 			// 100 m east on the grid of at is 100.3 m on the ellipsoid.
-			want = []string{"pathway D, 0.0–100.3 m", "span no-such-span"}
+			want = []string{"pathway D, 0.0 m to 100.3 m", "span no-such-span"}
 		}
 		if !slices.Equal(without, want) || !slices.Equal(with, want) {
 			t.Errorf("west only %v: without U %q, with U %q; want %q", west, without, with, want)

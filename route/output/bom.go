@@ -106,8 +106,22 @@ func describe(opt WriteOptions, l media.BOMLine) string {
 func pct(bp int64) string { return strconv.FormatFloat(float64(bp)/100, 'f', 2, 64) }
 
 // fromText is a BOM line's sources (media.BOMLine.From) as one cell, separated by "; " as
-// each source has a space in it ("leg L-1/primary").
-func fromText(l media.BOMLine) string { return strings.Join(l.From, "; ") }
+// each source has a space in it ("leg L-1/primary"), in the run's units (fromIn).
+func fromText(opt WriteOptions, l media.BOMLine) string { return strings.Join(fromIn(opt, l), "; ") }
+
+// fromIn is a BOM line's sources in the run's units: a stretch of pathway named by its metres
+// ("pathway EA-3, 0.0 m to 20.1 m", geo.Network.Stretches) in feet in an imperial run
+// (review 22 F3).
+func fromIn(opt WriteOptions, l media.BOMLine) []string {
+	if !opt.imperial() {
+		return l.From
+	}
+	out := make([]string, len(l.From))
+	for i, f := range l.From {
+		out[i] = InUnits(opt, f)
+	}
+	return out
+}
 
 // xlCellChars is the most characters a workbook cell holds (Excel specifications and
 // limits: 32,767 characters in a cell; the writer cuts longer text off silently), less room
@@ -115,7 +129,9 @@ func fromText(l media.BOMLine) string { return strings.Join(l.From, "; ") }
 const xlCellChars = 32767 - 100
 
 // fromCell is fromText for a workbook cell (fitCell), the rest in bom.csv.
-func fromCell(l media.BOMLine) string { return fitCell(l.From, "; ", "bom.csv") }
+func fromCell(opt WriteOptions, l media.BOMLine) string {
+	return fitCell(fromIn(opt, l), "; ", "bom.csv")
+}
 
 // fitCell is items joined by sep for a workbook cell: when they do not fit one cell
 // (xlCellChars) it keeps as many whole items as fit and says how many more the file named
@@ -156,7 +172,7 @@ func bomCSV(out io.Writer, r *route.Result, opt WriteOptions) error {
 		if l.NotPriced {
 			p, ext = l.NotPricedText(), ""
 		}
-		w.Write([]string{l.Category, describe(opt, l), unit, q, p, ext, fromText(l), l.PriceKeys()})
+		w.Write([]string{l.Category, describe(opt, l), unit, q, p, ext, fromText(opt, l), l.PriceKeys()})
 	}
 	for _, s := range b.Subtotal {
 		w.Write([]string{rowSubtotal, s.Category, "", "", "", media.FormatCents(s.Cents), "", ""})
@@ -327,7 +343,7 @@ func bomXLSX(ctx context.Context, out io.Writer, r *route.Result, opt WriteOptio
 			unitPrice, extended = workbook.Text(l.NotPricedText()), workbook.Blank()
 		}
 		bom.Append(workbook.Text(l.Category), workbook.Text(describe(opt, l)), workbook.Text(unit), workbook.Number(qty, dq),
-			unitPrice, extended, workbook.Text(fromCell(l)), workbook.Text(l.PriceKeys()))
+			unitPrice, extended, workbook.Text(fromCell(opt, l)), workbook.Text(l.PriceKeys()))
 	}
 	bom.Append()
 	subRow := map[string]int{}

@@ -177,9 +177,14 @@ func TestBOMWorkbook(t *testing.T) {
 				if got := cents(num(sh, fmt.Sprintf("F%d", row))); got != l.ExtendedCents {
 					t.Errorf("%s: extended %d, want %d", l.Item, got, l.ExtendedCents)
 				}
-				// The sources last, after the live formulas, as in bom.csv.
-				if got, _ := x.Value(sh, fmt.Sprintf("G%d", row)); got != strings.Join(l.From, "; ") || got == "" {
-					t.Errorf("%s: from %q, want %q", l.Item, got, strings.Join(l.From, "; "))
+				// The sources last, after the live formulas, as in bom.csv, in the run's units
+				// (a stretch's metres in feet: review 22 F3; 1 ft = 0.3048 m exactly, NIST SP 811).
+				want := strings.Join(l.From, "; ")
+				if opt.imperial() {
+					want = strings.ReplaceAll(want, "pathway EA-3, 0.0 m to 20.1 m", "pathway EA-3, 0.0 ft to 65.9 ft")
+				}
+				if got, _ := x.Value(sh, fmt.Sprintf("G%d", row)); got != want || got == "" {
+					t.Errorf("%s: from %q, want %q", l.Item, got, want)
 				}
 			}
 			if h, _ := x.Value(sh, "G1"); h != "from" {
@@ -364,14 +369,14 @@ print(wb["summary"]["B%d" % (21 + len(cats) - 4)].value)
 func TestFromCellFits(t *testing.T) {
 	t.Parallel()
 	l := media.BOMLine{From: []string{"leg A-B/primary", "leg A-C/primary"}}
-	if got := fromCell(l); got != "leg A-B/primary; leg A-C/primary" {
+	if got := fromCell(WriteOptions{}, l); got != "leg A-B/primary; leg A-C/primary" {
 		t.Errorf("short: %q", got)
 	}
 	l.From = nil
 	for i := range 5000 {
 		l.From = append(l.From, fmt.Sprintf("leg L%05d/primary", i))
 	}
-	got := fromCell(l)
+	got := fromCell(WriteOptions{}, l)
 	if len(got) > 32767 || !strings.HasSuffix(got, " more, all in bom.csv") {
 		t.Fatalf("long: %d characters, ends %q", len(got), got[len(got)-40:])
 	}

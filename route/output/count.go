@@ -44,7 +44,7 @@ const maxCountSpans = 10
 
 // countSpansText names where the count lays its work (estimate.CountWork.Where, the
 // stretches of pathway drawn, as the bill names them), " (on pathway EA-3)" or " (2
-// stretches: pathway EA-3; pathway S-TWR-E, 0.0–45.2 m)", at most maxCountSpans of them then
+// stretches: pathway EA-3; pathway S-TWR-E, 0.0 m to 45.2 m)", at most maxCountSpans of them then
 // "and N more"; "" when none is listed. Where to dig is what the owner weighs the count
 // against, and what a bidder prices (review 17 F5: the figures said how much, never where).
 func countSpansText(c estimate.CountWork) string {

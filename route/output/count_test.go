@@ -89,7 +89,7 @@ func TestCountSpansShown(t *testing.T) {
 	// The sentence names the spans by the stretches of pathway drawn, as the bill does: on the
 	// demo S-TWR-E/1 and S-TWR-E/2, cut only where RSA's counted lateral might tap it, are
 	// the whole pathway S-TWR-E (review 20 F5).
-	if want := "laid only for it (2 stretches: pathway EA-3, 0.0–20.1 m; pathway S-TWR-E), "; !slices.Equal(fc.Where, r.Site.Net.Stretches(s.CountLaidSpans)) || !strings.Contains(term.String(), want) {
+	if want := "laid only for it (2 stretches: pathway EA-3, 0.0 m to 20.1 m; pathway S-TWR-E), "; !slices.Equal(fc.Where, r.Site.Net.Stretches(s.CountLaidSpans)) || !strings.Contains(term.String(), want) {
 		t.Errorf("terminal's count of pulls line does not name the stretches of %q (%q), want %q:\n%s", s.CountLaidSpans, fc.Where, want, term.String())
 	}
 	t.Logf("demo: %q, %.1f m of trench", s.CountLaidSpans, s.CountLaidTrenchM)

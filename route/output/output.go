@@ -1097,7 +1097,9 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 		fmt.Fprintln(w, line)
 	}
 	if fc := c.ForCount; s.CablesPerDuct > 0 && (fc.DuctM > 0 || fc.TrenchM > 0 || fc.Cents > 0) {
-		fmt.Fprintln(w, t(CountText(fc, s.CablesPerDuct, length, func(c int64) string { return media.FormatCents(c) + " " + e.BOM.Currency })))
+		// InUnits: the stretches it names by their metres (review 22 F3); its own lengths are
+		// in the run's units already.
+		fmt.Fprintln(w, t(InUnits(opt, CountText(fc, s.CablesPerDuct, length, func(c int64) string { return media.FormatCents(c) + " " + e.BOM.Currency }))))
 	}
 	b := e.BOM
 	var cats []string

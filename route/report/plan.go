@@ -473,8 +473,8 @@ func planViewOf(ctx context.Context, r *route.Result, opt Options) (*planView, e
 		if v.NewConstruction == "" {
 			v.NewConstruction = "none"
 		}
-		v.CountOfPulls = strings.TrimPrefix(output.CountText(r.Estimate.Construction.ForCount, s.CablesPerDuct, opt.lengthU,
-			func(c int64) string { return money(c) + " " + r.Currency }), "count of pulls: ")
+		v.CountOfPulls = strings.TrimPrefix(output.InUnits(output.WriteOptions{Units: opt.Units}, output.CountText(r.Estimate.Construction.ForCount, s.CablesPerDuct, opt.lengthU,
+			func(c int64) string { return money(c) + " " + r.Currency })), "count of pulls: ")
 	}
 	v.Opened = output.Counted(len(r.Opened), "proposed span", "proposed spans")
 	if s.WorstMarginDB != nil {
