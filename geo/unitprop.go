@@ -140,8 +140,11 @@ func (l *loader) unitFinding(u *nearUse, more string) {
 		conv += ", and convert the others the same way"
 	}
 	if !u.problem {
-		l.warn(u.src, u.id, fmt.Sprintf("property %q is a length in %s and is not read%s: %s %s is %s %s, but %s gives %s, which is what is planned",
-			u.key, u.unit.name, more, u.key, u.raw, u.value, u.unit.metric, u.known, u.given))
+		l.warn(u.src, u.id, fmt.Sprintf("property %q is a length in %s and is not read%s: %s %s is %s %s, but %s gives %s %s, which is what is planned",
+			u.key, u.unit.name, more, u.key, u.raw, u.value, u.unit.metric, u.known, u.given, u.unit.metric))
+		// One of the two is likely wrong, and the text gives both units: shown in full and
+		// as written (Warning.Slip), never converted again (review 22 F10).
+		l.slips = append(l.slips, l.warns[len(l.warns)-1])
 		return
 	}
 	l.errs.Add(&input.Problem{File: u.src.File, Feature: u.src.Feature(u.id), Key: u.key,

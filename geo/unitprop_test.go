@@ -71,7 +71,7 @@ func TestLengthInOtherUnit(t *testing.T) {
 	p, w := read(`"properties":{"id":"B1","riser_m":7.5,"riser_ft":24.6},`+sq(0),
 		`"properties":{"id":"B2","riser_m":7.5,"riser_ft":80},`+sq(1))
 	check("both: problems", p)
-	check("both: warnings", w, `#1 (B2): property "riser_ft" is a length in feet and is not read: riser_ft 80 is 24.384 m, but riser_m gives 7.5, which is what is planned`)
+	check("both: warnings", w, `#1 (B2): property "riser_ft" is a length in feet and is not read: riser_ft 80 is 24.384 m, but riser_m gives 7.5 m, which is what is planned`)
 	// A length the reader does not read in any unit (a line's length comes from its
 	// geometry): the export's own attribute, nothing; nor a unit on a property of another kind.
 	p, w = read(`"properties":{"id":"P","length_ft":320.5,"riser_ft":10},` + gisLine)
