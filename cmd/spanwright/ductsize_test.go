@@ -97,8 +97,8 @@ func TestJamVerdictOnTerminal(t *testing.T) {
 		want   []string
 		not    string
 	}{
-		{0, []string{"warning: ducts of 101.5 mm inside (", "1.05·D/d = 3.23, outside the jam band", "so a duct takes 3 of them; a duct of 100.57 mm or narrower inside, 0.93 mm away, would take 2"}, "reads as a nominal size"},
-		{100, []string{"warning: ducts of 100 mm inside (", "1.05·D/d = 3.18, in the jam band", "so a duct takes 2 of them; a duct wider than 100.57 mm inside, 0.57 mm away, would take 3",
+		{0, []string{"warning: ducts of 101.5 mm inside (", "D/d = 3.08, and 1.05·D/d = 3.23 with the pulling guides' allowance for ovality at bends, outside the jam band", "so a duct takes 3 of them; a duct of 100.57 mm or narrower inside, 0.93 mm away, would take 2"}, "reads as a nominal size"},
+		{100, []string{"warning: ducts of 100 mm inside (", "D/d = 3.03, and 1.05·D/d = 3.18 with the pulling guides' allowance for ovality at bends, in the jam band", "so a duct takes 2 of them; a duct wider than 100.57 mm inside, 0.57 mm away, would take 3",
 			"100 mm reads as a nominal size, not an inside diameter: trade size 103 (4 in) PVC conduit is 101.5 mm inside in Schedule 40, 96.2 mm in Schedule 80"}, ""},
 	} {
 		out, msg, code := run(t, "plan", ductCampus(t, tc.ductMM, innerduct), "--out", t.TempDir())

@@ -31,7 +31,7 @@ func TestDuctFillJamBand(t *testing.T) {
 		// 1.05 × 31.5 / 10.5 = 3.15: in the band, so the third cable is refused (computed);
 		// the band ends at 3.2 × 10.5 / 1.05 = 32 mm, 1.6 % wider, within
 		// install.JamTolerancePct, where a duct takes three (computed).
-		{"in the jam band", 31.5, []int{2}, 0, true, 31, "ducts of 31.5 mm inside (span S1 carries three or more of one size): three 10.5 mm cables give 1.05·D/d = 3.15, in the jam band 2.8–3.2 (NFPA 70 Chapter 9 Table 1 Informational Note No. 2), so a duct takes 2 of them; a duct wider than 32.00 mm inside, 0.50 mm away, would take 3"},
+		{"in the jam band", 31.5, []int{2}, 0, true, 31, "ducts of 31.5 mm inside (span S1 carries three or more of one size): three 10.5 mm cables give D/d = 3.00, and 1.05·D/d = 3.15 with the pulling guides' allowance for ovality at bends, in the jam band 2.8–3.2 (NFPA 70 Chapter 9 Table 1 Informational Note No. 2 gives it on D/d; the plan applies it to 1.05·D/d), so a duct takes 2 of them; a duct wider than 32.00 mm inside, 0.50 mm away, would take 3"},
 		// 1.05 × 40 / 10.5 = 4.0, and 3 × 10.5² / 40² = 20.7 % of 40 % (computed); the band's
 		// edge (32 mm) is 20 % away: no warning.
 		{"clear of the band", 40, []int{3}, 4.0, false, 40, ""},

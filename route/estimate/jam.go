@@ -76,7 +76,11 @@ func jamWarnings(fill []DuctFill, innerduct bool, cablesPerDuct int) []string {
 			if !in {
 				verdict = "outside"
 			}
-			verdict += fmt.Sprintf(" the jam band %g–%g (NFPA 70 Chapter 9 Table 1 Informational Note No. 2)", install.JamRatioLowest, install.JamRatioHighest)
+			// The note gives the band on D/d; the 1.05 is the pulling guides' allowance for a
+			// duct's ovality at bends (common practice, no published source): both ratios are
+			// said, so that a reader checking the note finds its figure (review 22 F4).
+			verdict += fmt.Sprintf(" the jam band %g–%g (NFPA 70 Chapter 9 Table 1 Informational Note No. 2 gives it on D/d; the plan applies it to %g·D/d)",
+				install.JamRatioLowest, install.JamRatioHighest, install.JamBendFactor)
 			var other string
 			switch {
 			case in && edge > d:
@@ -89,8 +93,8 @@ func jamWarnings(fill []DuctFill, innerduct bool, cablesPerDuct int) []string {
 				other = "of " + mm2(edge) + " or narrower"
 			}
 			on = append(on, trios[od]...)
-			parts = append(parts, fmt.Sprintf("three %g mm %s give %g·D/d = %.2f, %s, so a duct takes %d of them; a duct %s inside, %s away, would take %d",
-				od, what, install.JamBendFactor, ratio, verdict, takes, other, mm2(math.Abs(edge-d)), would))
+			parts = append(parts, fmt.Sprintf("three %g mm %s give D/d = %.2f, and %g·D/d = %.2f with the pulling guides' allowance for ovality at bends, %s, so a duct takes %d of them; a duct %s inside, %s away, would take %d",
+				od, what, d/od, install.JamBendFactor, ratio, verdict, takes, other, mm2(math.Abs(edge-d)), would))
 		}
 		if len(parts) == 0 {
 			continue

@@ -34,9 +34,9 @@ func TestJamWarnings(t *testing.T) {
 	}
 	got := jamWarnings(fill, true, 0)
 	want := []string{
-		"ducts of 96.2 mm inside (span DB-SCH80 carries three or more of one size): three 33 mm innerducts give 1.05·D/d = 3.06, in the jam band 2.8–3.2 (NFPA 70 Chapter 9 Table 1 Informational Note No. 2), so a duct takes 2 of them; a duct wider than 100.57 mm inside, 4.37 mm away, would take 3. That is within the 5 %",
-		"ducts of 100 mm inside (span DB-002/1 and 1 more span carry three or more of one size): three 33 mm innerducts give 1.05·D/d = 3.18, in the jam band 2.8–3.2 (NFPA 70 Chapter 9 Table 1 Informational Note No. 2), so a duct takes 2 of them; a duct wider than 100.57 mm inside, 0.57 mm away, would take 3. That is within the 5 %",
-		"ducts of 101.5 mm inside (span NEW-BORE-1 carries three or more of one size): three 33 mm innerducts give 1.05·D/d = 3.23, outside the jam band 2.8–3.2 (NFPA 70 Chapter 9 Table 1 Informational Note No. 2), so a duct takes 3 of them; a duct of 100.57 mm or narrower inside, 0.93 mm away, would take 2. That is within the 5 %",
+		"ducts of 96.2 mm inside (span DB-SCH80 carries three or more of one size): three 33 mm innerducts give D/d = 2.92, and 1.05·D/d = 3.06 with the pulling guides' allowance for ovality at bends, in the jam band 2.8–3.2 (NFPA 70 Chapter 9 Table 1 Informational Note No. 2 gives it on D/d; the plan applies it to 1.05·D/d), so a duct takes 2 of them; a duct wider than 100.57 mm inside, 4.37 mm away, would take 3. That is within the 5 %",
+		"ducts of 100 mm inside (span DB-002/1 and 1 more span carry three or more of one size): three 33 mm innerducts give D/d = 3.03, and 1.05·D/d = 3.18 with the pulling guides' allowance for ovality at bends, in the jam band 2.8–3.2 (NFPA 70 Chapter 9 Table 1 Informational Note No. 2 gives it on D/d; the plan applies it to 1.05·D/d), so a duct takes 2 of them; a duct wider than 100.57 mm inside, 0.57 mm away, would take 3. That is within the 5 %",
+		"ducts of 101.5 mm inside (span NEW-BORE-1 carries three or more of one size): three 33 mm innerducts give D/d = 3.08, and 1.05·D/d = 3.23 with the pulling guides' allowance for ovality at bends, outside the jam band 2.8–3.2 (NFPA 70 Chapter 9 Table 1 Informational Note No. 2 gives it on D/d; the plan applies it to 1.05·D/d), so a duct takes 3 of them; a duct of 100.57 mm or narrower inside, 0.93 mm away, would take 2. That is within the 5 %",
 	}
 	if len(got) != len(want) {
 		t.Fatalf("got %d warnings, want %d:\n%s", len(got), len(want), strings.Join(got, "\n"))
