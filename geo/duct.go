@@ -83,6 +83,25 @@ func NominalHint(ductMM, tolPct float64) string {
 		ductMM, near.Trade, near.Inches, near.Sched40MM, near.Sched80MM)
 }
 
+// tradeInches are the trade sizes of PVCConduits in inches, by their Inches text.
+var tradeInches = map[string]float64{"½": 0.5, "¾": 0.75, "1": 1, "1¼": 1.25, "1½": 1.5, "2": 2, "2½": 2.5,
+	"3": 3, "3½": 3.5, "4": 4, "5": 5, "6": 6}
+
+// TradeHint is what to say of a duct diameter given in inches that is a trade size of
+// PVCConduits: a GIS that keeps ducts in inches most often keeps the trade size, whose inside
+// diameter is not the inches × 25.4 ("trade size 78 (3 in) PVC conduit is 77.3 mm inside in
+// Schedule 40, 72.7 mm in Schedule 80 (NFPA 70 Chapter 9 Table 4)"); "" for another figure
+// (review 22 F6).
+func TradeHint(inches float64) string {
+	for _, c := range PVCConduits {
+		if tradeInches[c.Inches] == inches {
+			return fmt.Sprintf("trade size %d (%s in) PVC conduit is %.1f mm inside in Schedule 40, %.1f mm in Schedule 80 (NFPA 70 Chapter 9 Table 4)",
+				c.Trade, c.Inches, c.Sched40MM, c.Sched80MM)
+		}
+	}
+	return ""
+}
+
 // unitSlip is a feature whose value of a length property looks typed in another unit: a
 // duct_mm below SmallestDuctMM, a riser_m above TallRiserM.
 type unitSlip struct {

@@ -135,6 +135,12 @@ func (l *loader) unitFinding(u *nearUse, more string) {
 	conv := fmt.Sprintf("give it in %s as %s (%s)", metricNames[u.unit.metric], u.known, per)
 	if u.value != "" {
 		conv = fmt.Sprintf("%s %s is %s %s: write %s: %s (%s)", u.key, u.raw, u.value, u.unit.metric, u.known, u.value, per)
+		// Inches of a duct are most often its trade size (review 22 F6).
+		if x, err := strconv.ParseFloat(u.raw, 64); err == nil && u.known == PropDuctMM && u.unit.symbol == "in" {
+			if hint := TradeHint(x); hint != "" {
+				conv += "; but if " + u.raw + " in is the conduit's trade size, " + hint + ": write its inside diameter"
+			}
+		}
 	}
 	if u.n > 1 {
 		conv += ", and convert the others the same way"

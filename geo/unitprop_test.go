@@ -51,7 +51,7 @@ func TestLengthInOtherUnit(t *testing.T) {
 	check("riser_ft", p, `c.geojson: feature #0 "B": property "riser_ft": a length in feet, not read: riser_ft 24.6 is 7.498 m: write riser_m: 7.498 (1 ft = 0.3048 m exactly); without riser_m the building is planned with a riser of 15 m`)
 	// NIST SP 811 B.8: 4 in × 25.4 = 101.6 mm; letter case and separators as a GIS writes them.
 	p, _ = read(`"properties":{"id":"P","DUCT_IN":4},` + gisLine)
-	check("DUCT_IN", p, `c.geojson: feature #0 "P": property "DUCT_IN": a length in inches, not read: DUCT_IN 4 is 101.6 mm: write duct_mm: 101.6 (1 in = 25.4 mm exactly); without duct_mm the pathway is planned with ducts of 101.5 mm`) // the default, geo.DefaultDuctMM
+	check("DUCT_IN", p, `c.geojson: feature #0 "P": property "DUCT_IN": a length in inches, not read: DUCT_IN 4 is 101.6 mm: write duct_mm: 101.6 (1 in = 25.4 mm exactly); but if 4 in is the conduit's trade size, trade size 103 (4 in) PVC conduit is 101.5 mm inside in Schedule 40, 96.2 mm in Schedule 80 (NFPA 70 Chapter 9 Table 4): write its inside diameter; without duct_mm the pathway is planned with ducts of 101.5 mm`) // the default, geo.DefaultDuctMM; Table 4 as geo.PVCConduits gives it (review 22 F6)
 	// NIST SP 811 B.8: 80 ft = 24.384 m; a number written as text (an export's text column).
 	p, _ = read(`"properties":{"id":"B","Riser Feet":"80"},` + sq(0))
 	check("Riser Feet", p, `c.geojson: feature #0 "B": property "Riser Feet": a length in feet, not read: Riser Feet 80 is 24.384 m: write riser_m: 24.384 (1 ft = 0.3048 m exactly); without riser_m the building is planned with a riser of 15 m`)
