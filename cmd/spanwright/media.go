@@ -38,5 +38,8 @@ func runMedia(catalogPath, rate string, w io.Writer) error {
 			return usageError{err}
 		}
 	}
-	return cat.Table(w, rateGbps)
+	if err := cat.Table(w, rateGbps); err != nil {
+		return err
+	}
+	return cat.ReachTable(w, rateGbps)
 }
