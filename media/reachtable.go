@@ -34,7 +34,7 @@ func (c *Catalog) ReachTable(w io.Writer, rateGbps float64) error {
 			if !m.Fibre() {
 				continue
 			}
-			if _, runs := c.applicationAt(rate, m.ID); !runs {
+			if !c.runsAt(rate, m.ID) {
 				continue
 			}
 			reach := func(l Link) string {
@@ -49,13 +49,12 @@ func (c *Catalog) ReachTable(w io.Writer, rateGbps float64) error {
 	return tw.Flush()
 }
 
-// applicationAt reports whether some application at rateGbps runs on medium, and names the
-// first.
-func (c *Catalog) applicationAt(rateGbps float64, medium string) (string, bool) {
+// runsAt reports whether some application at rateGbps runs on medium.
+func (c *Catalog) runsAt(rateGbps float64, medium string) bool {
 	for _, a := range c.Applications {
 		if _, ok := a.On(medium); ok && a.RateGbps == rateGbps {
-			return a.Name, true
+			return true
 		}
 	}
-	return "", false
+	return false
 }
