@@ -616,8 +616,10 @@ type Summary struct {
 	MidSpanSplices  int `json:"mid_span_splices"` // reel joins over all cables
 
 	WarningCount int `json:"warning_count"`
-	// WarningCounts splits WarningCount by source: network (noding), install (pulling,
-	// duct fill, bends) and budget.
+	// WarningCounts splits WarningCount by source: network (the campus and its noding),
+	// install (pulling, duct fill, bends), budget, and plan (the rest: the plan's own, such as
+	// a building it cannot serve or the price book it runs on, and routing's), so that they add
+	// up to WarningCount (verify 18 V6).
 	WarningCounts map[string]int `json:"warning_counts"`
 	Warnings      []string       `json:"warnings"`
 	// Notes are the plan's own notes and what of its entries was left out, and why
@@ -912,6 +914,12 @@ func Summarize(r *route.Result) Summary {
 	}
 	s.TotalRouteM = RouteListed(UnitsOf(WriteOptions{}), r)
 	s.WarningCount = len(s.Warnings)
+	s.WarningCounts["plan"] = s.WarningCount
+	for k, n := range s.WarningCounts {
+		if k != "plan" {
+			s.WarningCounts["plan"] -= n
+		}
+	}
 	return s
 }
 

@@ -2,6 +2,7 @@ package output
 
 import (
 	"bytes"
+	"slices"
 	"strings"
 	"testing"
 
@@ -78,6 +79,26 @@ func TestSummaryFiguresOnce(t *testing.T) {
 	} {
 		if !strings.Contains(term.String(), want) {
 			t.Errorf("terminal lacks %q:\n%s", want, term.String())
+		}
+	}
+}
+
+// TestWarningCountsAddUp: summary.json's warning_counts split warning_count by source and add
+// up to it, the plan's own warnings (a building it cannot serve, routing's findings) under
+// "plan" (verify 18 V6: tester 14's unjoined building was counted in warning_count only).
+func TestWarningCountsAddUp(t *testing.T) {
+	t.Parallel()
+	r := testplan.DemoResult(t)
+	for _, extra := range []int{0, 2} {
+		rr := *r
+		rr.Warnings = append(slices.Clone(r.Warnings), slices.Repeat([]string{"plan: a warning of the plan's own"}, extra)...)
+		s := Summarize(&rr)
+		sum := 0
+		for _, n := range s.WarningCounts {
+			sum += n
+		}
+		if sum != s.WarningCount || s.WarningCounts["plan"] != extra {
+			t.Errorf("%d warnings of the plan's own: warning_counts %v add up to %d, warning_count %d; want equal, plan %d", extra, s.WarningCounts, sum, s.WarningCount, extra)
 		}
 	}
 }
