@@ -11,7 +11,7 @@ import (
 // Table 4 lists, the sizes ANSI/TIA-569 gives pathways in (from memory); a campus backbone duct is usually 103
 // (4 in). The inside diameters of the two ends, in millimetres: EMT ½ in is 0.622 in inside,
 // rigid PVC Schedule 40 6 in is 6.031 in (NFPA 70 Chapter 9 Table 4, seen in a secondary
-// transcription; PVCConduits).
+// copy; PVCConduits).
 const (
 	// SmallestDuctMM is the inside diameter of the smallest conduit trade size, 16 (½ in)
 	// EMT, in millimetres: a duct_mm below it is warned of (smallDuctWarnings).
@@ -34,7 +34,7 @@ type Conduit struct {
 
 // PVCConduits are the trade sizes of rigid PVC conduit, NFPA 70 Chapter 9 Table 4, Article
 // 352, nominal internal diameters in inches × 25.4, to 0.1 mm (seen in a secondary
-// transcription of the table, not in the standard itself; ../shared/REFERENCES.md recalls
+// copy of the table, not in the standard itself; ../shared/REFERENCES.md recalls
 // 3.998 in for Schedule 40 trade size 103 too). The ½ in Schedule 80 (13.4 mm) is smaller
 // than SmallestDuctMM, the EMT figure the unit-slip warning names.
 var PVCConduits = []Conduit{

@@ -167,7 +167,7 @@ func TestUnitSlipMarked(t *testing.T) {
 }
 
 // TestPVCConduits checks the table of rigid PVC conduit against NFPA 70 Chapter 9 Table 4
-// (Article 352; seen in a secondary transcription of the table, not in the standard itself):
+// (Article 352; seen in a secondary copy of the table, not in the standard itself):
 // π/4·d² of each inside diameter gives the table's total area (100 %) to its rounding, here
 // for trade sizes 53 (2 in: 3.291 and 2.874 in²) and 103 (4 in: 12.554 and 11.258 in²); every
 // Schedule 80 is narrower than its Schedule 40; the default duct_mm is trade size 103
@@ -187,7 +187,7 @@ func TestPVCConduits(t *testing.T) {
 	}
 	for _, tc := range []struct {
 		trade          int
-		area40, area80 float64 // in², NFPA 70 Chapter 9 Table 4 (seen, secondary transcription)
+		area40, area80 float64 // in², NFPA 70 Chapter 9 Table 4 (seen, secondary copy)
 	}{{53, 3.291, 2.874}, {103, 12.554, 11.258}} {
 		c := byTrade[tc.trade]
 		// The table's diameters are given to 0.001 in, ours to 0.1 mm: within 0.5 % of area.

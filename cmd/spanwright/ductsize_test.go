@@ -85,7 +85,7 @@ func TestDuctSlipOnTerminal(t *testing.T) {
 
 // TestJamVerdictOnTerminal (tester 15 F2): with 33 mm innerducts (the README's 1-inch SDR 11,
 // from memory), the default duct, trade size 103 PVC Schedule 40 (101.5 mm inside, NFPA 70
-// Chapter 9 Table 4, seen in a secondary transcription), takes three: 1.05 × 101.5 / 33 = 3.23,
+// Chapter 9 Table 4, seen in a secondary copy), takes three: 1.05 × 101.5 / 33 = 3.23,
 // just above the jam band 2.8–3.2 (NFPA 70 Chapter 9 Table 1 Informational Note No. 2, seen);
 // ducts given as 100 mm take two (3.18). Either way the terminal says the verdict turns on
 // less than a millimetre (the band ends at 3.2 × 33 / 1.05 = 100.57 mm, computed), and for

@@ -116,7 +116,7 @@ func Jam(ductIDMM, a, b, c float64) (ratio float64, risk bool) {
 // be and still be taken for the same duct when a jam verdict is checked for a flip (JamEdge):
 // the inside diameters of rigid PVC conduit of one trade size differ by 4.9 to 6.0 % between
 // Schedule 40 and Schedule 80 from trade size 78 to 155 (NFPA 70 Chapter 9 Table 4, seen in a
-// secondary transcription), and a duct_mm that names the size but not the wall, or a round
+// secondary copy), and a duct_mm that names the size but not the wall, or a round
 // nominal such as 100, is uncertain by that much; it is also the size of JamBendFactor's
 // allowance itself. A modelling choice.
 const JamTolerancePct = 5.0

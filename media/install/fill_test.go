@@ -421,7 +421,7 @@ func TestCrowded(t *testing.T) {
 // README's 1-inch SDR 11, from memory) it ends at 3.2 × 33 / 1.05 = 100.571 mm and starts at
 // 2.8 × 33 / 1.05 = 88 mm (computed). Inside diameters of trade size 103 (4 in): PVC
 // Schedule 40 101.5 mm, Schedule 80 96.2 mm, rigid metal conduit 102.9 mm, EMT 110.1 mm
-// (NFPA 70 Chapter 9 Table 4, seen in a secondary transcription).
+// (NFPA 70 Chapter 9 Table 4, seen in a secondary copy).
 func TestJamEdge(t *testing.T) {
 	t.Parallel()
 	const od = 33.0

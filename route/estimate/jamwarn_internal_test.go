@@ -13,7 +13,7 @@ import (
 // so a duct takes two; the band ends at 3.2 × 33 / 1.05 = 100.57 mm (computed), and trade size
 // 103 (4 in) PVC Schedule 40 is 101.5 mm inside (3.23: three), Schedule 80 96.2 mm (3.06: two),
 // EMT 110.1 mm (3.50, 9.5 % from the band: no warning) (NFPA 70 Chapter 9 Table 4, seen in a
-// secondary transcription). The duct sizes and spans are the tester's reproduction's
+// secondary copy). The duct sizes and spans are the tester's reproduction's
 // (invented campus).
 func TestJamWarnings(t *testing.T) {
 	t.Parallel()
