@@ -104,10 +104,8 @@ type layout struct {
 	// heldSpans are the spans of pathways nothing may be built beside (geo.MethodNone), by id:
 	// a reason that finds them full says why no duct is added (ductsFull).
 	heldSpans map[string]bool
-	// given reports whether a span's shared-risk group is the campus's (geo.Span.Group given,
-	// or its pathway's id named as a group by another pathway), not its pathway's own by
-	// default, which runGroups parts into runs.
-	given func(sp *geo.Span) bool
+	// namedGroups are the groups some span gives other than its pathway's id (layout.given).
+	namedGroups map[string]bool
 	// site marks, by node, the junctions split for turns (runs of duct crossing or meeting
 	// with no structure, an entrance's or not): the nodes of one junction share a number > 0,
 	// one place for a diverse link's legs (optimize.Problem.Sites), numbered in junction
@@ -178,13 +176,12 @@ func newLayout(s *site.Site) *layout {
 	// A group is given (not a pathway's own by default, which runGroups parts at branch
 	// points) when it is not the pathway's id, or when another pathway gives that id as its
 	// group: naming a duct bank after one of its pathways declares them one risk (review 22 F1).
-	named := map[string]bool{}
+	l.namedGroups = map[string]bool{}
 	for _, sp := range net.Spans {
 		if sp.Group != sp.PathwayID {
-			named[sp.Group] = true
+			l.namedGroups[sp.Group] = true
 		}
 	}
-	l.given = func(sp *geo.Span) bool { return sp.Group != sp.PathwayID || named[sp.Group] }
 	var names []string
 	for i := range net.Spans {
 		sp := &net.Spans[i]
@@ -432,6 +429,13 @@ func (l *layout) markSites(copies [][]int, turnAt map[int]bool) {
 			l.site[v] = n
 		}
 	}
+}
+
+// given reports whether span sp's shared-risk group is the campus's (geo.Span.Group given,
+// or its pathway's id named as a group by another pathway), not its pathway's own by default,
+// which runGroups parts into runs.
+func (l *layout) given(sp *geo.Span) bool {
+	return sp.Group != sp.PathwayID || l.namedGroups[sp.Group]
 }
 
 // runGroups sets spanGroup and runGroup. A span with a shared-risk group given on the
