@@ -1029,10 +1029,6 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 		if s.CablesPerDuct > 0 {
 			countToo = " and for the count of pulls a duct"
 		}
-		cur := ""
-		if s.Currency != "" {
-			cur = " " + t(s.Currency)
-		}
 		closed := ""
 		switch {
 		case s.GapPct != nil && *s.GapPct <= 1e-7:
@@ -1040,12 +1036,12 @@ func PrintSummary(w io.Writer, r *route.Result, opt WriteOptions) error {
 		case s.GapPct != nil && *s.GapPct > wideGapPct:
 			crossing := ""
 			if s.DiverseOffCrossing > 0 {
-				crossing = ", nor the junctions diverse legs are kept off (" + media.FormatCents(s.DiverseOffCrossingCents) + cur + " above)"
+				crossing = ", nor the junctions diverse legs are kept off (" + s.moneyText(s.DiverseOffCrossingCents) + " above)"
 			}
 			closed = " (no plan of these legs costs less than the bound; a gap this wide usually means a weak bound rather than poor routes: the bound leaves out duct capacity, so the ducts and trench added for fill" + countToo + " are not in it" + crossing + ")"
 		}
-		fmt.Fprintf(w, "optimizer: routes %s%s by the optimizer's objective, proved lower bound %s%s, gap %s%s\n",
-			media.FormatCents(s.ObjectiveCents), cur, media.FormatCents(*s.LowerBoundCents), cur, GapText(s.GapPct), closed)
+		fmt.Fprintf(w, "optimizer: routes %s by the optimizer's objective, proved lower bound %s, gap %s%s\n",
+			s.moneyText(s.ObjectiveCents), s.moneyText(*s.LowerBoundCents), GapText(s.GapPct), closed)
 	}
 	e := r.Estimate
 	if e == nil || e.BOM == nil {
@@ -1178,6 +1174,15 @@ func SafetyNote(r *route.Result) string {
 		Counted(len(r.Cautions), "caution", "cautions"), strings.ToLower(strings.Join(route.CautionTitles(r.Cautions), ", ")), SheetSafety)
 }
 
+// moneyText is cents in currency units with the plan's currency after them, for the
+// terminal ("163495.99 USD"; the amount alone when the plan has none).
+func (s Summary) moneyText(cents int64) string {
+	if s.Currency == "" {
+		return media.FormatCents(cents)
+	}
+	return media.FormatCents(cents) + " " + escape.Terminal(s.Currency)
+}
+
 // diverseLine is the terminal's line on the links that asked for a diverse route: how many
 // got two routes, how many of those still share a single point of failure, how many lack
 // one; "" when no link asked.
@@ -1190,12 +1195,8 @@ func diverseLine(s Summary) string {
 		line += fmt.Sprintf(", %d of them sharing a single point of failure (reason_code %s in links.csv)", s.DiverseSinglePoint, routing.CodeSharedPt)
 	}
 	if s.DiverseOffCrossing > 0 {
-		cur := ""
-		if s.Currency != "" {
-			cur = " " + escape.Terminal(s.Currency)
-		}
-		line += fmt.Sprintf(", %d kept off a junction where ducts cross with no structure that a cheaper pair would share (%s%s more by the optimizer's objective)",
-			s.DiverseOffCrossing, media.FormatCents(s.DiverseOffCrossingCents), cur)
+		line += fmt.Sprintf(", %d kept off a junction where ducts cross with no structure that a cheaper pair would share (%s more by the optimizer's objective)",
+			s.DiverseOffCrossing, s.moneyText(s.DiverseOffCrossingCents))
 	}
 	if s.DiverseShort > 0 {
 		line += fmt.Sprintf("; %d lacking a diverse route", s.DiverseShort)
