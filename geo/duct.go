@@ -28,6 +28,7 @@ const (
 type Conduit struct {
 	Trade     int     // metric designator (103 for 4 in)
 	Inches    string  // trade size in inches ("4")
+	In        float64 // the same as a number (4)
 	Sched40MM float64 // Schedule 40 inside diameter, mm
 	Sched80MM float64 // Schedule 80 inside diameter, mm
 }
@@ -38,18 +39,18 @@ type Conduit struct {
 // 3.998 in for Schedule 40 trade size 103 too). The ½ in Schedule 80 (13.4 mm) is smaller
 // than SmallestDuctMM, the EMT figure the unit-slip warning names.
 var PVCConduits = []Conduit{
-	{16, "½", 15.3, 13.4},    // 0.602, 0.526 in
-	{21, "¾", 20.4, 18.3},    // 0.804, 0.722 in
-	{27, "1", 26.1, 23.8},    // 1.029, 0.936 in
-	{35, "1¼", 34.5, 31.9},   // 1.360, 1.255 in
-	{41, "1½", 40.4, 37.5},   // 1.590, 1.476 in
-	{53, "2", 52.0, 48.6},    // 2.047, 1.913 in
-	{63, "2½", 62.1, 58.2},   // 2.445, 2.290 in
-	{78, "3", 77.3, 72.7},    // 3.042, 2.864 in
-	{91, "3½", 89.4, 84.5},   // 3.521, 3.326 in
-	{103, "4", 101.5, 96.2},  // 3.998, 3.786 in
-	{129, "5", 127.4, 121.1}, // 5.016, 4.768 in
-	{155, "6", 153.2, 145.0}, // 6.031, 5.709 in
+	{16, "½", 0.5, 15.3, 13.4},   // 0.602, 0.526 in
+	{21, "¾", 0.75, 20.4, 18.3},  // 0.804, 0.722 in
+	{27, "1", 1, 26.1, 23.8},     // 1.029, 0.936 in
+	{35, "1¼", 1.25, 34.5, 31.9}, // 1.360, 1.255 in
+	{41, "1½", 1.5, 40.4, 37.5},  // 1.590, 1.476 in
+	{53, "2", 2, 52.0, 48.6},     // 2.047, 1.913 in
+	{63, "2½", 2.5, 62.1, 58.2},  // 2.445, 2.290 in
+	{78, "3", 3, 77.3, 72.7},     // 3.042, 2.864 in
+	{91, "3½", 3.5, 89.4, 84.5},  // 3.521, 3.326 in
+	{103, "4", 4, 101.5, 96.2},   // 3.998, 3.786 in
+	{129, "5", 5, 127.4, 121.1},  // 5.016, 4.768 in
+	{155, "6", 6, 153.2, 145.0},  // 6.031, 5.709 in
 }
 
 // DefaultDuctMM is a pathway's inner duct diameter in millimetres when duct_mm is absent:
@@ -79,13 +80,15 @@ func NominalHint(ductMM, tolPct float64) string {
 	if near == nil {
 		return ""
 	}
-	return fmt.Sprintf("%g mm reads as a nominal size, not an inside diameter: trade size %d (%s in) PVC conduit is %.1f mm inside in Schedule 40, %.1f mm in Schedule 80 (NFPA 70 Chapter 9 Table 4)",
-		ductMM, near.Trade, near.Inches, near.Sched40MM, near.Sched80MM)
+	return fmt.Sprintf("%g mm reads as a nominal size, not an inside diameter: %s", ductMM, near.insideText())
 }
 
-// tradeInches are the trade sizes of PVCConduits in inches, by their Inches text.
-var tradeInches = map[string]float64{"½": 0.5, "¾": 0.75, "1": 1, "1¼": 1.25, "1½": 1.5, "2": 2, "2½": 2.5,
-	"3": 3, "3½": 3.5, "4": 4, "5": 5, "6": 6}
+// insideText says c's inside diameters: "trade size 103 (4 in) PVC conduit is 101.5 mm
+// inside in Schedule 40, 96.2 mm in Schedule 80 (NFPA 70 Chapter 9 Table 4)".
+func (c Conduit) insideText() string {
+	return fmt.Sprintf("trade size %d (%s in) PVC conduit is %.1f mm inside in Schedule 40, %.1f mm in Schedule 80 (NFPA 70 Chapter 9 Table 4)",
+		c.Trade, c.Inches, c.Sched40MM, c.Sched80MM)
+}
 
 // TradeHint is what to say of a duct diameter given in inches that is a trade size of
 // PVCConduits: a GIS that keeps ducts in inches most often keeps the trade size, whose inside
@@ -94,9 +97,8 @@ var tradeInches = map[string]float64{"½": 0.5, "¾": 0.75, "1": 1, "1¼": 1.25,
 // (review 22 F6).
 func TradeHint(inches float64) string {
 	for _, c := range PVCConduits {
-		if tradeInches[c.Inches] == inches {
-			return fmt.Sprintf("trade size %d (%s in) PVC conduit is %.1f mm inside in Schedule 40, %.1f mm in Schedule 80 (NFPA 70 Chapter 9 Table 4)",
-				c.Trade, c.Inches, c.Sched40MM, c.Sched80MM)
+		if c.In == inches {
+			return c.insideText()
 		}
 	}
 	return ""

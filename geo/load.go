@@ -873,7 +873,8 @@ func wholeDigits(s string) bool {
 	return true
 }
 
-// describeID prints an id member for a message: a string quoted, a number as written.
+// describeID prints an id member, or another property's value, for a message: a string
+// quoted, anything else as describe does.
 func describeID(v any) string {
 	if s, ok := v.(string); ok {
 		return strconv.Quote(s)

@@ -185,7 +185,7 @@ func (f *feature) nearCheck() {
 			if sameValue(got, v) {
 				continue
 			}
-			u.given = valueText(v)
+			u.given = describeID(v)
 		} else if sameValue(f.props[key], f.takenFor(k)) || k == PropKind && sameValue(f.props[key], f.kind) {
 			continue // "TYPE": "duct", "Kind": "building" on a polygon: what the default gives
 		} else if foldName(key) != foldName(k) {
@@ -213,14 +213,14 @@ func (f *feature) unitCheck(u nearUse) bool {
 	u.unit = &unit
 	x, xDec, isNum := numberOf(f.props[u.key])
 	if isNum {
-		u.raw, u.value = strings.Trim(valueText(f.props[u.key]), `"`), unit.converted(x)
+		u.raw, u.value = strings.Trim(describeID(f.props[u.key]), `"`), unit.converted(x)
 	}
 	if v := f.props[k]; v != nil && v != "" {
 		m, mDec, ok := numberOf(v)
 		if !isNum || !ok || unit.agrees(x, xDec, m, mDec) {
 			return true // an export that writes both, or a value no length: the one meant is read
 		}
-		u.given = valueText(v)
+		u.given = describeID(v)
 	} else {
 		u.problem = true
 	}
@@ -294,15 +294,6 @@ func sameValue(v, x any) bool {
 		return isStr && vs == s
 	}
 	return v == x
-}
-
-// valueText prints a property's value to show: a string quoted, anything else as describe
-// does.
-func valueText(v any) string {
-	if s, ok := v.(string); ok {
-		return strconv.Quote(s)
-	}
-	return describe(v)
 }
 
 // nearFindings turns the slips nearCheck noted into problems and warnings: one for each file

@@ -59,8 +59,7 @@ func jamWarnings(fill []DuctFill, innerduct bool, cablesPerDuct int) []string {
 			if !ok {
 				continue
 			}
-			ratio, _ := install.Jam(d, od, od, od)
-			in := ratio >= install.JamRatioLowest && ratio <= install.JamRatioHighest
+			ratio, in := install.Jam(d, od, od, od)
 			across := edge * (1 - 1e-9) // a duct just beyond the edge from d
 			if edge > d {
 				across = edge * (1 + 1e-9)
